@@ -1,0 +1,125 @@
+package templates
+
+// fixedStep always takes the step stepInitial, whatever it does to f; only
+// a non-finite value at the new point is refused. It is the plain gradient
+// loop with a hand-picked step: it converges only when stepInitial is below
+// 2/L for an L-Lipschitz gradient (Nocedal & Wright 2006, §3.3, recalled
+// from memory) and otherwise oscillates or diverges.
+func fixedStep(recv *receiver, x *vec, fx elem, d *vec, slope, first elem, budget int, xt, gt *vec) lineResult {
+	if budget < 1 {
+		return lineResult{end: searchOutOfBudget}
+	}
+	moveTo(xt, x, stepInitial, d)
+	ft := recv.objective(xt)
+	if !finite(ft) {
+		return lineResult{calls: 1, end: searchExhausted}
+	}
+	return lineResult{step: stepInitial, value: ft, calls: 1, end: searchAccepted}
+}
+
+// decreaseSearch backtracks from the trial step first until f decreases at
+// all, f(x + t·d) < f(x), taking t ← next trial each time. Simple decrease
+// does not guarantee convergence (Nocedal & Wright 2006, §3.1, the example
+// around Fig. 3.2), which is why armijoSearch exists.
+func decreaseSearch(recv *receiver, x *vec, fx elem, d *vec, slope, first elem, budget int, xt, gt *vec) lineResult {
+	t := first
+	var previous, fPrevious elem
+	for trial := 0; trial < stepTrials; trial++ {
+		if trial >= budget {
+			return lineResult{calls: trial, end: searchOutOfBudget}
+		}
+		moveTo(xt, x, t, d)
+		ft := recv.objective(xt)
+		if finite(ft) && ft < fx {
+			return lineResult{step: t, value: ft, calls: trial + 1, end: searchAccepted}
+		}
+		t, previous, fPrevious = backtrackTrial(fx, slope, t, ft, previous, fPrevious), t, ft
+	}
+	return lineResult{calls: stepTrials, end: searchExhausted}
+}
+
+// armijoSearch backtracks from the trial step first until the Armijo
+// sufficient-decrease condition holds:
+//
+//	f(x + t·d) ≤ f(x) + c1·t·∇f(x)ᵀd,  c1 = stepDecrease
+//
+// (Armijo 1966; Nocedal & Wright 2006, eq. 3.4 and Algorithm 3.1). Each
+// failure takes t ← next trial, by fixed shrink or by interpolation.
+//
+// References:
+//   - L. Armijo, Minimization of functions having Lipschitz continuous
+//     first partial derivatives, Pacific J. Math. 16(1):1–3, 1966.
+//   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
+//     Springer, 2006, §3.1 and §3.5.
+func armijoSearch(recv *receiver, x *vec, fx elem, d *vec, slope, first elem, budget int, xt, gt *vec) lineResult {
+	t := first
+	var previous, fPrevious elem
+	for trial := 0; trial < stepTrials; trial++ {
+		if trial >= budget {
+			return lineResult{calls: trial, end: searchOutOfBudget}
+		}
+		moveTo(xt, x, t, d)
+		ft := recv.objective(xt)
+		if finite(ft) && ft <= fx+stepDecrease*t*slope { // N&W eq. 3.4
+			return lineResult{step: t, value: ft, calls: trial + 1, end: searchAccepted}
+		}
+		t, previous, fPrevious = backtrackTrial(fx, slope, t, ft, previous, fPrevious), t, ft
+	}
+	return lineResult{calls: stepTrials, end: searchExhausted}
+}
+
+// backtrackTrial picks the next, smaller trial after t failed with
+// f(x + t·d) = ft; previous and fPrevious are the trial before it (zero on
+// the first backtrack). It stands in for the backtracking the spec chose;
+// gen keeps only that one under this name.
+func backtrackTrial(fx, slope, t, ft, previous, fPrevious elem) elem {
+	if backtrackKind == backtrackInterpolate {
+		return interpolatedTrial(fx, slope, t, ft, previous, fPrevious)
+	}
+	return shrunkTrial(fx, slope, t, ft, previous, fPrevious)
+}
+
+// shrunkTrial is t·stepShrink (Nocedal & Wright 2006, Algorithm 3.1).
+func shrunkTrial(fx, slope, t, ft, previous, fPrevious elem) elem {
+	return t * stepShrink
+}
+
+// interpolatedTrial minimizes a model of φ(t) = f(x + t·d) built from what
+// is known: φ(0) = fx, φ'(0) = slope and the failed trials. The first
+// backtrack uses the quadratic through φ(0), φ'(0) and φ(t) (Nocedal &
+// Wright 2006, eq. 3.58); later ones the cubic through φ(0), φ'(0) and the
+// last two trials (the formula after eq. 3.58). The result is kept within
+// [0.1·t, 0.5·t] so that steps neither stall nor collapse (the safeguard of
+// §3.5; the bounds 0.1 and 0.5 are Dennis & Schnabel 1983, Algorithm
+// A6.3.1, recalled from memory). A trial whose value is not finite is
+// shrunk by stepShrink, since no model fits it.
+func interpolatedTrial(fx, slope, t, ft, previous, fPrevious elem) elem {
+	low, high := 0.1*t, 0.5*t
+	if !finite(ft) {
+		return t * stepShrink
+	}
+	var next elem
+	if previous == 0 || !finite(fPrevious) {
+		next = -slope * t * t / (2 * (ft - fx - slope*t)) // N&W eq. 3.58
+	} else {
+		// Cubic φ(a) = A·a³ + B·a² + slope·a + fx through (t, ft) and
+		// (previous, fPrevious): N&W 2006, p. 58, the formula after eq. 3.58.
+		rt := ft - fx - slope*t
+		rp := fPrevious - fx - slope*previous
+		scale := 1 / (t * t * previous * previous * (t - previous))
+		a := scale * (previous*previous*rt - t*t*rp)
+		b := scale * (-previous*previous*previous*rt + t*t*t*rp)
+		if a == 0 {
+			next = -slope / (2 * b) // the cubic is a quadratic
+		} else {
+			next = (-b + squareRoot(b*b-3*a*slope)) / (3 * a)
+		}
+	}
+	if !(next >= low) { // also catches NaN
+		return low
+	}
+	if next > high {
+		return high
+	}
+	return next
+}

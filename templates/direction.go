@@ -1,0 +1,91 @@
+package templates
+
+// direction stands in for the search direction the spec chose; gen keeps
+// only that one under this name. Every direction has the same methods:
+//
+//	reset()                         forget all history (start, and whenever a direction fails to descend)
+//	compute(g, d *vec)              set d to the search direction for gradient g
+//	update(s, y *vec)               learn from the step s = x₊ − x and gradient change y = g₊ − g
+//	firstTrial(t, slope, now elem)  the first trial step of a line search, given the previous
+//	                                accepted step t, the previous slope gᵀd and the current one
+type direction struct {
+	steepest steepestDirection
+	bfgs     bfgsDirection
+	lbfgs    lbfgsDirection
+	cg       cgDirection
+}
+
+func (s *direction) reset() {
+	switch directionKind {
+	case kindSteepest:
+		s.steepest.reset()
+	case kindLBFGS:
+		s.lbfgs.reset()
+	case kindCG:
+		s.cg.reset()
+	default:
+		s.bfgs.reset()
+	}
+}
+
+func (s *direction) compute(g, d *vec) {
+	switch directionKind {
+	case kindSteepest:
+		s.steepest.compute(g, d)
+	case kindLBFGS:
+		s.lbfgs.compute(g, d)
+	case kindCG:
+		s.cg.compute(g, d)
+	default:
+		s.bfgs.compute(g, d)
+	}
+}
+
+func (s *direction) update(step, change *vec) {
+	switch directionKind {
+	case kindSteepest:
+		s.steepest.update(step, change)
+	case kindLBFGS:
+		s.lbfgs.update(step, change)
+	case kindCG:
+		s.cg.update(step, change)
+	default:
+		s.bfgs.update(step, change)
+	}
+}
+
+func (s *direction) firstTrial(t, slope, now elem) elem {
+	switch directionKind {
+	case kindSteepest:
+		return s.steepest.firstTrial(t, slope, now)
+	case kindLBFGS:
+		return s.lbfgs.firstTrial(t, slope, now)
+	case kindCG:
+		return s.cg.firstTrial(t, slope, now)
+	default:
+		return s.bfgs.firstTrial(t, slope, now)
+	}
+}
+
+// curvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
+// update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
+// as (sᵀy)² > u·(sᵀs)(yᵀy) with u the unit roundoff, so that the updated
+// matrix stays positive definite and well conditioned (Nocedal & Wright
+// 2006, §6.1, condition 6.7; the relative threshold √u·‖s‖‖y‖ is from
+// Dennis & Schnabel 1983, Algorithm A9.4.1, recalled from memory).
+func curvatureSafe(s, y *vec) bool {
+	sy := dot(s, y)
+	return sy > 0 && sy*sy > unitRoundoff*dot(s, s)*dot(y, y)
+}
+
+// scaledTrial is the first trial of steepest descent and conjugate
+// gradients: it assumes the first-order change will match the previous
+// iteration's, α₀ = α₋₁·(g₋₁ᵀd₋₁)/(gᵀd) (Nocedal & Wright 2006, eq. 3.60).
+// A ratio that is not a positive finite number falls back to stepInitial.
+func scaledTrial(t, slope, now elem) elem {
+	next := t * (slope / now) // N&W eq. 3.60
+	if !(next > 0) || !finite(next) {
+		return stepInitial
+	}
+	return next
+}

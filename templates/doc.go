@@ -1,0 +1,24 @@
+// Package templates holds the algorithm kernels that nadir specializes.
+//
+// Every kernel here is ordinary Go, written once for float64 vectors of a
+// stand-in dimension and a stand-in objective, and unit-tested in place.
+// The gen package parses these files, keeps the declarations a spec needs
+// and rewrites their syntax tree: elem becomes the objective's float type,
+// vec its array type, calls to the stand-in objective and gradient become
+// calls to the user's functions, the dispatchers below are replaced by the
+// one rule the spec chose, and every package-level name gains the
+// minimizer's prefix.
+//
+// Rules for authors of this package (checked by TestTemplateHygiene):
+//   - no local name shadows a package-level one;
+//   - math is reached only through the helpers in vector.go;
+//   - the objective is called only as recv.objective(x) and the gradient
+//     only as the statement recv.gradient(x, g), both with *vec operands.
+package templates
+
+import "embed"
+
+// Source is this package's own source, which gen parses and specializes.
+//
+//go:embed *.go
+var Source embed.FS

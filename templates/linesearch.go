@@ -1,0 +1,37 @@
+package templates
+
+// searchEnd tells how a line search ended.
+type searchEnd uint8
+
+const (
+	searchAccepted    searchEnd = iota // a step met the rule
+	searchExhausted                    // stepTrials trials met none
+	searchOutOfBudget                  // the evaluation cap came first
+)
+
+// lineResult is what a line search reports to the kernel.
+type lineResult struct {
+	step     elem      // the accepted step t
+	value    elem      // f(x + t·d)
+	calls    int       // objective calls spent, finite differences included
+	gradient bool      // whether gt holds ∇f(x + t·d) already
+	end      searchEnd // how the search ended
+}
+
+// lineSearch looks along d from x, where f(x) = fx and the slope
+// ∇f(x)ᵀd < 0, starting with the trial step first, spending at most budget
+// objective calls. On acceptance xt holds x + t·d (and gt its gradient
+// when the result says so). It stands in for the rule the spec chose; gen
+// keeps only that one under this name.
+func lineSearch(recv *receiver, x *vec, fx elem, d *vec, slope, first elem, budget int, xt, gt *vec) lineResult {
+	switch stepRule {
+	case ruleFixed:
+		return fixedStep(recv, x, fx, d, slope, first, budget, xt, gt)
+	case ruleDecrease:
+		return decreaseSearch(recv, x, fx, d, slope, first, budget, xt, gt)
+	case ruleWolfe, ruleStrongWolfe:
+		return wolfeSearch(recv, x, fx, d, slope, first, budget, xt, gt)
+	default:
+		return armijoSearch(recv, x, fx, d, slope, first, budget, xt, gt)
+	}
+}

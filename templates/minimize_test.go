@@ -1,0 +1,204 @@
+package templates
+
+import (
+	"math"
+	"testing"
+)
+
+// Every policy reaches the published minimum of Rosenbrock (1, 1), f = 0
+// (Moré, Garbow & Hillstrom 1981, problem 1) and of the closed-form
+// ellipse, and reports exactly the objective calls it made.
+func TestEveryPolicyConverges(t *testing.T) {
+	problems := []struct {
+		name  string
+		make  func() *receiver
+		start vec
+		want  vec
+	}{
+		{"rosenbrock", rosenbrock, vec{-1.2, 1}, vec{1, 1}},
+		{"ellipse", ellipse, vec{0, 0}, vec{3, -1}},
+	}
+	for _, p := range everyPolicy() {
+		if p.kind == kindCG && p.rule < ruleWolfe {
+			// Polak–Ribière directions are descent directions only under the
+			// strong Wolfe conditions with c2 < ½ (Nocedal & Wright 2006,
+			// §5.2, Lemma 5.6 and the discussion of PR+); with backtracking
+			// alone CG crawls on Rosenbrock. TestEvaluationCapIsNeverExceeded
+			// and TestNonFiniteValues still cover those pairs.
+			continue
+		}
+		for _, prob := range problems {
+			t.Run(p.String()+"/"+prob.name, func(t *testing.T) {
+				p.use(t)
+				recv := prob.make()
+				lim := defaultLimits()
+				if p.source != sourceAnalytic {
+					lim.Gradient = 1e-5 // differences cannot resolve the gradient below √u-level noise
+				}
+				out := minimize(recv, prob.start, lim)
+				if out.status != statusGradientSmall && out.status != statusStepTiny {
+					t.Fatalf("status %d after %d iterations, %d calls, x = %v, f = %g", out.status, out.iterations, out.evaluations, out.x, out.f)
+				}
+				for i := range out.x {
+					if math.Abs(out.x[i]-prob.want[i]) > 1e-4 {
+						t.Errorf("x = %v, want %v", out.x, prob.want)
+					}
+				}
+				if out.evaluations != recv.calls {
+					t.Errorf("reported %d evaluations, objective saw %d calls", out.evaluations, recv.calls)
+				}
+			})
+		}
+	}
+}
+
+// Steepest descent with a fixed step t on f = ½·a·x² + ½·b·y² is the linear
+// map x ← (1 − t·a)·x, so after k steps x = (1 − t·a)ᵏ·x₀ exactly (closed
+// form, Nocedal & Wright 2006, §3.3).
+func TestFixedStepMatchesClosedForm(t *testing.T) {
+	policy{sourceAnalytic, kindSteepest, ruleFixed, backtrackShrink}.use(t)
+	const a, b = 1.0, 1.5 // stepInitial = 1 needs a, b < 2 to converge
+	recv := &receiver{
+		valueFunc:    func(x *vec) elem { return 0.5*a*x[0]*x[0] + 0.5*b*x[1]*x[1] },
+		gradientFunc: func(x, g *vec) { g[0], g[1] = a*x[0], b*x[1] },
+	}
+	lim := limits{Gradient: -1, Step: -1, Iterations: 7, Evaluations: 100}
+	out := minimize(recv, vec{2, 3}, lim)
+	if out.status != statusOutOfIterations || out.iterations != 7 {
+		t.Fatalf("status %d after %d iterations", out.status, out.iterations)
+	}
+	want := vec{2 * math.Pow(1-stepInitial*a, 7), 3 * math.Pow(1-stepInitial*b, 7)}
+	if out.x != want {
+		t.Errorf("x = %v, want %v", out.x, want)
+	}
+	if out.evaluations != 8 {
+		t.Errorf("evaluations = %d, want 8 (one per step plus the start)", out.evaluations)
+	}
+}
+
+// A fixed step larger than 2/L diverges: the step is taken whatever f
+// does, as the rule promises, until f overflows and the trial is refused.
+func TestFixedStepDivergesAndStopsOnOverflow(t *testing.T) {
+	policy{sourceAnalytic, kindSteepest, ruleFixed, backtrackShrink}.use(t)
+	recv := &receiver{
+		valueFunc:    func(x *vec) elem { return 2 * (x[0]*x[0] + x[1]*x[1]) },
+		gradientFunc: func(x, g *vec) { g[0], g[1] = 4*x[0], 4*x[1] },
+	}
+	out := minimize(recv, vec{1, 1}, defaultLimits())
+	if out.status != statusNoAcceptableStep {
+		t.Fatalf("status %d, want no acceptable step", out.status)
+	}
+	if !finite(out.f) || out.iterations < 100 {
+		t.Errorf("f = %g after %d iterations: want the last finite value after a long divergence", out.f, out.iterations)
+	}
+}
+
+// The evaluation cap is hard: a run is deterministic, so for every cap
+// below what an uncapped run needs, the capped run follows the same path,
+// stops with out-of-evaluations and never calls the objective more often
+// than the cap allows.
+func TestEvaluationCapIsNeverExceeded(t *testing.T) {
+	for _, p := range everyPolicy() {
+		t.Run(p.String(), func(t *testing.T) {
+			p.use(t)
+			needed := minimize(rosenbrock(), vec{-1.2, 1}, defaultLimits()).evaluations
+			for cap := 0; cap < needed; cap += 1 + cap/40 {
+				recv := rosenbrock()
+				lim := defaultLimits()
+				lim.Evaluations = cap
+				out := minimize(recv, vec{-1.2, 1}, lim)
+				if recv.calls > cap || out.evaluations != recv.calls {
+					t.Fatalf("cap %d: %d calls, %d reported", cap, recv.calls, out.evaluations)
+				}
+				if out.status != statusOutOfEvaluations {
+					t.Fatalf("cap %d of %d needed: status %d, want out of evaluations", cap, needed, out.status)
+				}
+			}
+		})
+	}
+}
+
+// NaN or ±Inf never loops: each ends the run with its own status.
+func TestNonFiniteValues(t *testing.T) {
+	for _, p := range everyPolicy() {
+		t.Run(p.String(), func(t *testing.T) {
+			p.use(t)
+			nan := math.NaN()
+			start := rosenbrock()
+			if out := minimize(start, vec{nan, 1}, defaultLimits()); out.status != statusNonFiniteStart {
+				t.Errorf("NaN start: status %d", out.status)
+			}
+			wall := rosenbrock() // +Inf everywhere but the start
+			inner := wall.valueFunc
+			wall.valueFunc = func(x *vec) elem {
+				if *x == (vec{-1.2, 1}) {
+					return inner(x)
+				}
+				return math.Inf(1)
+			}
+			if p.source == sourceAnalytic {
+				out := minimize(wall, vec{-1.2, 1}, defaultLimits())
+				if out.status != statusNoAcceptableStep || out.evaluations > 1+stepTrials {
+					t.Errorf("Inf trials: status %d after %d calls", out.status, out.evaluations)
+				}
+			} else {
+				out := minimize(wall, vec{-1.2, 1}, defaultLimits())
+				if out.status != statusNonFiniteGradient {
+					t.Errorf("Inf in differences: status %d", out.status)
+				}
+			}
+			if p.source == sourceAnalytic {
+				badGradient := rosenbrock()
+				badGradient.gradientFunc = func(x, g *vec) { g[0], g[1] = nan, 0 }
+				if out := minimize(badGradient, vec{-1.2, 1}, defaultLimits()); out.status != statusNonFiniteGradient {
+					t.Errorf("NaN gradient: status %d", out.status)
+				}
+			}
+		})
+	}
+}
+
+// The evaluation count of the finite differences: forward costs dim calls,
+// central 2·dim (Nocedal & Wright 2006, §8.1).
+func TestDerivativeCosts(t *testing.T) {
+	for source, want := range []int{0, dim, 2 * dim} {
+		policy{source, kindBFGS, ruleArmijo, backtrackShrink}.use(t)
+		recv := rosenbrock()
+		x := vec{-1.2, 1}
+		var g vec
+		derivative(recv, &x, recv.valueFunc(&x), &g)
+		if recv.calls != want || derivativeCost != want {
+			t.Errorf("%s: %d calls, cost %d, want %d", sourceNames[source], recv.calls, derivativeCost, want)
+		}
+	}
+}
+
+// Differences agree with the analytic gradient of Rosenbrock within their
+// truncation and rounding bounds: forward h·|f_ii|/2 + 2u|f|/h, central
+// h²·|f_iii|/6 + u|f|/h (Nocedal & Wright 2006, §8.1, eqs. 8.3 and 8.7 and
+// the error terms derived with them), doubled for slack. Rosenbrock's
+// derivatives: f₁₁ = 1200x₁² − 400x₂ + 2, f₁₁₁ = 2400x₁, f₂₂ = 200, f₂₂₂ = 0.
+func TestDifferencesMatchAnalytic(t *testing.T) {
+	recv := rosenbrock()
+	const u = 0x1p-53
+	for _, x := range []vec{{-1.2, 1}, {0.3, -2}, {1, 1}, {40, 1600.5}} {
+		var exact, fwd, cen vec
+		recv.gradientFunc(&x, &exact)
+		fx := recv.valueFunc(&x)
+		forwardDifference(recv, &x, fx, &fwd)
+		centralDifference(recv, &x, fx, &cen)
+		second := vec{math.Abs(1200*x[0]*x[0]-400*x[1]+2) + 1, 200}
+		third := vec{2400 * (math.Abs(x[0]) + 1), 0}
+		for i := range exact {
+			hf := forwardScale * max(1, math.Abs(x[i]))
+			hc := centralScale * max(1, math.Abs(x[i]))
+			roundoff := u * max(1, math.Abs(fx), math.Abs(exact[i]*x[i]))
+			if e, bound := math.Abs(fwd[i]-exact[i]), 2*(hf*second[i]/2+2*roundoff/hf); e > bound {
+				t.Errorf("forward at %v: g[%d] = %g, want %g within %g", x, i, fwd[i], exact[i], bound)
+			}
+			if e, bound := math.Abs(cen[i]-exact[i]), 2*(hc*hc*third[i]/6+roundoff/hc); e > bound {
+				t.Errorf("central at %v: g[%d] = %g, want %g within %g", x, i, cen[i], exact[i], bound)
+			}
+		}
+	}
+}

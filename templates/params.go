@@ -1,0 +1,56 @@
+package templates
+
+// Tunables. gen drops these declarations and emits the spec's values as
+// constants of the same names, so the kernels read them the same way.
+const (
+	stepInitial   = 1.0  // first trial step
+	stepShrink    = 0.5  // backtracking factor
+	stepDecrease  = 1e-4 // sufficient-decrease constant c1
+	stepCurvature = 0.9  // curvature constant c2 (Wolfe rules)
+	stepTrials    = 40   // objective calls allowed in one line search
+
+	// Finite-difference steps relative to max(1, |x_i|): √u and ∛u for the
+	// unit roundoff u = 2⁻⁵³ of float64 (Nocedal & Wright 2006, §8.1).
+	forwardScale = 1.4901161193847656e-08
+	centralScale = 6.0554544523933395e-06
+	unitRoundoff = 0x1p-53 // u of float64
+
+	lbfgsMemory = 5 // L-BFGS correction pairs
+)
+
+// Selectors used only by this package's tests to pick among the
+// alternatives; gen picks one at generation time instead.
+var (
+	derivativeSource = sourceAnalytic
+	directionKind    = kindBFGS
+	stepRule         = ruleArmijo
+	backtrackKind    = backtrackShrink
+	derivativeCost   = 0 // objective calls per gradient, set with derivativeSource
+)
+
+// Alternatives for the selectors above.
+const (
+	sourceAnalytic = iota
+	sourceForward
+	sourceCentral
+)
+
+const (
+	kindSteepest = iota
+	kindBFGS
+	kindLBFGS
+	kindCG
+)
+
+const (
+	ruleFixed = iota
+	ruleDecrease
+	ruleArmijo
+	ruleWolfe
+	ruleStrongWolfe
+)
+
+const (
+	backtrackShrink = iota
+	backtrackInterpolate
+)

@@ -1,0 +1,54 @@
+package templates
+
+// Stand-ins for the spec's shape. gen replaces each of them.
+
+// elem stands in for the objective's float type (float32 or float64).
+type elem = float64
+
+// dim stands in for the number of unknowns.
+const dim = 2
+
+// vec stands in for the objective's argument: an array of dim elements.
+// Scalar objectives are minimized as vectors of length one.
+type vec = [dim]elem
+
+// receiver stands in for the value the objective is called on. Plain
+// functions have none: gen then drops every recv parameter and argument.
+type receiver struct {
+	valueFunc    func(x *vec) elem
+	gradientFunc func(x, g *vec)
+	calls        int // objective calls, counted independently of the kernels
+}
+
+// objective stands in for the user's objective.
+func (r *receiver) objective(x *vec) elem {
+	r.calls++
+	return r.valueFunc(x)
+}
+
+// gradient stands in for the user's analytic gradient.
+func (r *receiver) gradient(x, g *vec) {
+	r.gradientFunc(x, g)
+}
+
+// status stands in for the spec's status type.
+type status uint8
+
+// Stand-ins for the status values; gen emits the real ones.
+const (
+	statusGradientSmall status = iota + 1
+	statusStepTiny
+	statusOutOfIterations
+	statusOutOfEvaluations
+	statusNoAcceptableStep
+	statusNonFiniteStart
+	statusNonFiniteGradient
+)
+
+// limits stands in for the spec's run-time stop limits.
+type limits struct {
+	Gradient    elem
+	Step        elem
+	Iterations  int
+	Evaluations int
+}

@@ -1,0 +1,73 @@
+package templates
+
+import "math"
+
+// finite reports whether v is neither NaN nor ±Inf: v-v is 0 for every
+// finite v and NaN otherwise, which needs no package math.
+func finite(v elem) bool {
+	return v-v == 0
+}
+
+// finiteVec reports whether every component of x is finite.
+func finiteVec(x *vec) bool {
+	for i := range x {
+		if !finite(x[i]) {
+			return false
+		}
+	}
+	return true
+}
+
+// abs returns |v|.
+func abs(v elem) elem {
+	if v < 0 {
+		return -v
+	}
+	return v
+}
+
+// maxAbs returns the largest |x_i|, the infinity norm.
+func maxAbs(x *vec) elem {
+	var m elem
+	for i := range x {
+		if a := abs(x[i]); a > m || a != a {
+			m = a
+		}
+	}
+	return m
+}
+
+// dot returns aᵀb.
+func dot(a, b *vec) elem {
+	var s elem
+	for i := range a {
+		s += a[i] * b[i]
+	}
+	return s
+}
+
+// moveTo sets out = x + t·d.
+func moveTo(out, x *vec, t elem, d *vec) {
+	for i := range x {
+		out[i] = x[i] + t*d[i]
+	}
+}
+
+// difference sets out = a − b.
+func difference(out, a, b *vec) {
+	for i := range a {
+		out[i] = a[i] - b[i]
+	}
+}
+
+// negate sets out = −x.
+func negate(out, x *vec) {
+	for i := range x {
+		out[i] = -x[i]
+	}
+}
+
+// squareRoot returns √v.
+func squareRoot(v elem) elem {
+	return elem(math.Sqrt(float64(v)))
+}

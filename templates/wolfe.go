@@ -1,0 +1,144 @@
+package templates
+
+// linePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
+// and, when known, φ'(step) = ∇f(x+step·d)ᵀd.
+type linePoint struct {
+	step, value, slope elem
+	hasSlope           bool
+}
+
+// wolfeSearch finds a step meeting the Wolfe conditions
+//
+//	f(x + t·d) ≤ f(x) + c1·t·∇f(x)ᵀd                (sufficient decrease)
+//	∇f(x + t·d)ᵀd ≥ c2·∇f(x)ᵀd                      (curvature, "wolfe")
+//	|∇f(x + t·d)ᵀd| ≤ c2·|∇f(x)ᵀd|                  (strong curvature, "strong-wolfe")
+//
+// with 0 < c1 = stepDecrease < c2 = stepCurvature < 1 (Nocedal & Wright
+// 2006, eqs. 3.6 and 3.7). It brackets an acceptable step by expansion,
+// then narrows the bracket (Algorithms 3.5 and 3.6), choosing each trial by
+// safeguarded interpolation (§3.5). The gradient is computed only at trials
+// that pass sufficient decrease, since only they can be accepted or become
+// the low end of a bracket; the accepted trial's value and gradient are
+// handed back, so the kernel never pays for them twice. A non-finite trial
+// value counts as a failure of sufficient decrease.
+//
+// References:
+//   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
+//     11(2):226–235, 1969.
+//   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
+//     Springer, 2006, §3.1 and §3.5.
+//   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
+//     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
+func wolfeSearch(recv *receiver, x *vec, fx elem, d *vec, slope, first elem, budget int, xt, gt *vec) lineResult {
+	low := linePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
+	var high linePoint                                        // the other end of the bracket, once bracketed
+	bracketed := false
+	t := first
+	calls := 0
+	for trial := 0; trial < stepTrials; trial++ {
+		if calls >= budget {
+			return lineResult{calls: calls, end: searchOutOfBudget}
+		}
+		moveTo(xt, x, t, d)
+		current := linePoint{step: t, value: recv.objective(xt)}
+		calls++
+		previous := low
+		if !finite(current.value) || current.value > fx+stepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
+			high, bracketed = current, true // too far: [low, current] holds an acceptable step
+		} else {
+			if calls+derivativeCost > budget {
+				return lineResult{calls: calls, end: searchOutOfBudget}
+			}
+			derivative(recv, xt, current.value, gt)
+			calls += derivativeCost
+			current.slope, current.hasSlope = dot(gt, d), true
+			switch {
+			case !finite(current.slope):
+				high, bracketed = current, true
+			case curvatureMet(current.slope, slope):
+				return lineResult{step: t, value: current.value, calls: calls, gradient: true, end: searchAccepted}
+			case bracketed && current.slope*(high.step-low.step) >= 0:
+				high, low = low, current // Alg. 3.6: the new low's slope points away from high
+			case !bracketed && current.slope >= 0:
+				high, low, bracketed = low, current, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			default:
+				low = current
+			}
+		}
+		if bracketed {
+			t = zoomTrial(&low, &high)
+		} else {
+			t = expandTrial(&previous, &current)
+		}
+	}
+	return lineResult{calls: calls, end: searchExhausted}
+}
+
+// curvatureMet applies the curvature condition of the spec's Wolfe rule to
+// the slope now at a trial, given the slope at t = 0.
+func curvatureMet(now, initial elem) bool {
+	if stepRule == ruleStrongWolfe {
+		return abs(now) <= -stepCurvature*initial // N&W eq. 3.7b
+	}
+	return now >= stepCurvature*initial // N&W eq. 3.6b
+}
+
+// zoomTrial picks the next trial inside the bracket between low and high:
+// the minimizer of the cubic through both ends when both slopes are known,
+// otherwise of the quadratic through low's value and slope and high's value
+// (N&W 2006, §3.5, eqs. 3.58–3.59), kept at least a tenth of the bracket
+// away from either end so that the bracket shrinks geometrically (common
+// practice; Moré & Thuente 1994 use a safeguard of the same kind). A model
+// without a minimizer falls back to bisection.
+func zoomTrial(low, high *linePoint) elem {
+	margin := 0.1 * (high.step - low.step)
+	next, ok := modelMinimizer(low, high)
+	if !ok {
+		return low.step + 0.5*(high.step-low.step)
+	}
+	return clampBetween(next, low.step+margin, high.step-margin)
+}
+
+// expandTrial picks a larger trial after current met sufficient decrease
+// with a slope still steeply negative: the model's minimizer through
+// previous and current, kept within [2, 8] times current's step (common
+// practice; Moré & Thuente 1994 bound extrapolation in the same way with
+// factors of their own).
+func expandTrial(previous, current *linePoint) elem {
+	next, ok := modelMinimizer(previous, current)
+	if !ok {
+		return 2 * current.step
+	}
+	return clampBetween(next, 2*current.step, 8*current.step)
+}
+
+// clampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func clampBetween(v, a, b elem) elem {
+	return max(min(a, b), min(max(a, b), v))
+}
+
+// modelMinimizer returns the minimizer of the cubic interpolating values
+// and slopes at a and b (N&W 2006, eq. 3.59), or, when b's slope is
+// unknown, of the quadratic through a's value and slope and b's value; ok
+// is false when the model has no finite minimizer.
+func modelMinimizer(a, b *linePoint) (t elem, ok bool) {
+	delta := b.step - a.step
+	if !b.hasSlope {
+		// q(t) = φ(a) + φ'(a)·(t − a) + c·(t − a)², minimized at a − φ'(a)/(2c).
+		c := (b.value - a.value - a.slope*delta) / (delta * delta)
+		t = a.step - a.slope/(2*c)
+		return t, c > 0 && finite(t)
+	}
+	d1 := a.slope + b.slope - 3*(a.value-b.value)/(a.step-b.step) // N&W eq. 3.59
+	radicand := d1*d1 - a.slope*b.slope
+	if !(radicand >= 0) {
+		return 0, false // the cubic has no local minimizer
+	}
+	d2 := squareRoot(radicand)
+	if delta < 0 {
+		d2 = -d2 // sign(b − a) in eq. 3.59
+	}
+	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
+	return t, finite(t)
+}
