@@ -109,10 +109,20 @@ func interpolatedTrial(fx, slope, t, ft, previous, fPrevious elem) elem {
 		scale := 1 / (t * t * previous * previous * (t - previous))
 		a := scale * (previous*previous*rt - t*t*rp)
 		b := scale * (-previous*previous*previous*rt + t*t*t*rp)
-		if a == 0 {
-			next = -slope / (2 * b) // the cubic is a quadratic
-		} else {
-			next = (-b + squareRoot(b*b-3*a*slope)) / (3 * a)
+		// The minimizer is (−b + √(b² − 3a·slope)) / (3a). When b > 0 that
+		// numerator cancels as a → 0, and rounding leaves a tiny but
+		// nonzero whenever φ is nearly quadratic, so the root is taken in
+		// the equal form −slope / (b + √(b² − 3a·slope)), which has no
+		// cancellation and gives −slope/(2b) at a = 0 (the usual
+		// rearrangement of the quadratic formula; common practice).
+		root := squareRoot(b*b - 3*a*slope)
+		switch {
+		case b > 0:
+			next = -slope / (b + root)
+		case a == 0:
+			next = -slope / (2 * b) // a concave quadratic: no minimizer, clamped below
+		default:
+			next = (-b + root) / (3 * a) // b ≤ 0: −b and root add without cancellation
 		}
 	}
 	if !(next >= low) { // also catches NaN

@@ -11,8 +11,8 @@ const (
 
 	// Finite-difference steps relative to max(1, |x_i|): √u and ∛u for the
 	// unit roundoff u = 2⁻⁵³ of float64 (Nocedal & Wright 2006, §8.1).
-	forwardScale = 1.4901161193847656e-08
-	centralScale = 6.0554544523933395e-06
+	forwardScale = 1.0536712127723509e-08
+	centralScale = 4.806217383937352e-06
 	unitRoundoff = 0x1p-53 // u of float64
 
 	lbfgsMemory = 5 // L-BFGS correction pairs

@@ -74,13 +74,26 @@ func wolfeSearch(recv *receiver, x *vec, fx elem, d *vec, slope, first elem, bud
 	return lineResult{calls: calls, end: searchExhausted}
 }
 
-// curvatureMet applies the curvature condition of the spec's Wolfe rule to
-// the slope now at a trial, given the slope at t = 0.
+// curvatureMet applies the curvature condition of the spec's Wolfe rule
+// to the slope now at a trial, given the slope at t = 0. It stands in for
+// the rule the spec chose; gen keeps only that one under this name.
 func curvatureMet(now, initial elem) bool {
 	if stepRule == ruleStrongWolfe {
-		return abs(now) <= -stepCurvature*initial // N&W eq. 3.7b
+		return strongCurvature(now, initial)
 	}
+	return weakCurvature(now, initial)
+}
+
+// weakCurvature is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)
+// (Nocedal & Wright 2006, eq. 3.6b).
+func weakCurvature(now, initial elem) bool {
 	return now >= stepCurvature*initial // N&W eq. 3.6b
+}
+
+// strongCurvature is the strong Wolfe curvature condition
+// |φ'(t)| ≤ c2·|φ'(0)| (Nocedal & Wright 2006, eq. 3.7b).
+func strongCurvature(now, initial elem) bool {
+	return abs(now) <= -stepCurvature*initial // N&W eq. 3.7b
 }
 
 // zoomTrial picks the next trial inside the bracket between low and high:

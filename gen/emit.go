@@ -1,0 +1,275 @@
+package gen
+
+import (
+	"bytes"
+	"fmt"
+	"go/format"
+	"go/parser"
+	"go/token"
+	"io"
+	"strings"
+
+	"github.com/dave/jennifer/jen"
+	"golang.org/x/tools/go/ast/astutil"
+
+	"github.com/nadir-opt/nadir/rules"
+)
+
+// EmitMinimizer writes the generated minimizer for p: header, status,
+// result and limits types and entry points (shaped by the spec, built with
+// jennifer), the tunables, then the specialized kernels. The whole file
+// goes through go/format once; source that does not parse is an error
+// that quotes it with line numbers, never a file on disk.
+func EmitMinimizer(w io.Writer, p *Plan) error {
+	kernels, err := specialize(p.kernelChoice())
+	if err != nil {
+		return err
+	}
+	f := jen.NewFile(p.Shape.Package)
+	f.HeaderComment(headerLine(p.SpecName))
+	emitStatus(f, p)
+	emitTypes(f, p)
+	emitEntry(f, p, kernels.entryName)
+	emitTunables(f, p, kernels.uses)
+	var buf bytes.Buffer
+	if err := f.Render(&buf); err != nil {
+		return err
+	}
+	buf.Write(kernels.source)
+	return formatInto(w, buf.Bytes(), kernels.usesMath)
+}
+
+// formatInto parses the assembled source, adds the math import when the
+// kernels need it and writes it gofmt'ed.
+func formatInto(w io.Writer, src []byte, usesMath bool) error {
+	fset := token.NewFileSet()
+	file, err := parser.ParseFile(fset, "", src, parser.ParseComments)
+	if err != nil {
+		return fmt.Errorf("generated code does not parse (a nadir bug): %v\n%s", err, numbered(src))
+	}
+	if usesMath {
+		astutil.AddImport(fset, file, "math")
+	}
+	var out bytes.Buffer
+	if err := format.Node(&out, fset, file); err != nil {
+		return err
+	}
+	_, err = w.Write(out.Bytes())
+	return err
+}
+
+func numbered(src []byte) string {
+	var b strings.Builder
+	for i, line := range strings.Split(string(src), "\n") {
+		fmt.Fprintf(&b, "%5d  %s\n", i+1, line)
+	}
+	return b.String()
+}
+
+// xType is the type of x0 and Result.X: T, or [N]T.
+func xType(p *Plan) *jen.Statement {
+	if p.Shape.Scalar() {
+		return jen.Id(p.Shape.Elem)
+	}
+	return jen.Index(jen.Lit(p.Shape.Dim)).Id(p.Shape.Elem)
+}
+
+// receiverParam is "recv R" for methods; R is the objective's receiver type.
+func receiverParam(p *Plan) []jen.Code {
+	if p.Shape.Receiver == "" {
+		return nil
+	}
+	t := jen.Id(p.Shape.Receiver)
+	if p.Shape.Pointer {
+		t = jen.Op("*").Id(p.Shape.Receiver)
+	}
+	return []jen.Code{jen.Id("recv").Add(t)}
+}
+
+// emitStatus writes:
+//
+//	type NAMEStatus uint8
+//	const ( NAMEGradientSmall NAMEStatus = iota + 1; … )
+//	func (s NAMEStatus) String() string { switch s { … } }
+//	func (s NAMEStatus) Converged() bool { return s == … || s == … }
+func emitStatus(f *jen.File, p *Plan) {
+	name := p.M.Name + "Status"
+	f.Commentf("%s tells why %s stopped. Only the statuses for which Converged is true say that X is a minimizer to the spec's tolerances; check it before acting on a result.", name, p.M.Name)
+	f.Type().Id(name).Uint8()
+	var consts []jen.Code
+	for i, s := range statuses {
+		c := jen.Comment(fmt.Sprintf("%s%s: %s.", p.M.Name, s.suffix, s.doc)).Line().Id(p.M.Name + s.suffix)
+		if i == 0 {
+			c.Id(name).Op("=").Iota().Op("+").Lit(1)
+		}
+		consts = append(consts, c)
+	}
+	f.Const().Defs(consts...)
+	var cases []jen.Code
+	var converged *jen.Statement
+	for _, s := range statuses {
+		cases = append(cases, jen.Case(jen.Id(p.M.Name+s.suffix)).Block(jen.Return(jen.Lit(s.text))))
+		if s.converged {
+			test := jen.Id("s").Op("==").Id(p.M.Name + s.suffix)
+			if converged == nil {
+				converged = test
+			} else {
+				converged = converged.Op("||").Add(test)
+			}
+		}
+	}
+	cases = append(cases, jen.Default().Block(jen.Return(jen.Lit("unknown status"))))
+	f.Comment("String describes the status in a few words.")
+	f.Func().Params(jen.Id("s").Id(name)).Id("String").Params().String().Block(jen.Switch(jen.Id("s")).Block(cases...))
+	f.Comment("Converged reports whether a convergence test, on the gradient or on the step, ended the run; limits, line-search failure and non-finite values are not convergence.")
+	f.Func().Params(jen.Id("s").Id(name)).Id("Converged").Params().Bool().Block(jen.Return(converged))
+}
+
+// emitTypes writes the result and limits types and the default limits:
+//
+//	type NAMEResult struct { X …; F T; Iterations, Evaluations int; Status NAMEStatus }
+//	type NAMELimits struct { Gradient, Step T; Iterations, Evaluations int }
+//	func NAMEDefaultLimits() NAMELimits { return NAMELimits{…} }
+func emitTypes(f *jen.File, p *Plan) {
+	name, elem := p.M.Name, p.Shape.Elem
+	f.Commentf("%sResult is where %s stopped and why.", name, name)
+	f.Type().Id(name+"Result").Struct(
+		jen.Id("X").Add(xType(p)).Comment("the last accepted point, the best one found"),
+		jen.Id("F").Id(elem).Comment("the objective at X"),
+		jen.Id("Iterations").Int().Comment("accepted steps"),
+		jen.Id("Evaluations").Int().Comment("objective calls, finite differences included"),
+		jen.Id("Status").Id(name+"Status").Comment("why the run stopped; check Status.Converged()"),
+	)
+	f.Commentf("%sLimits are the stop limits of one run. Pass them to %sWithLimits to change them at run time; %sDefaultLimits returns the spec's.", name, name, name)
+	f.Type().Id(name+"Limits").Struct(
+		jen.Id("Gradient").Id(elem).Comment("stop when the largest |∂f/∂xᵢ| is at most this"),
+		jen.Id("Step").Id(elem).Comment("stop when the largest |Δxᵢ| is at most this·(‖x‖∞ + 1)"),
+		jen.Id("Iterations").Int().Comment("most accepted steps"),
+		jen.Id("Evaluations").Int().Comment("hard cap on objective calls, finite differences included; never exceeded"),
+	)
+	f.Commentf("%sDefaultLimits returns the stop limits of %s, [minimizer.stop].", name, p.SpecName)
+	f.Func().Id(name + "DefaultLimits").Params().Id(name + "Limits").Block(
+		jen.Return(jen.Id(name + "Limits").Values(jen.Dict{
+			jen.Id("Gradient"):    jen.Op(formatFloat(p.Stop.Gradient)),
+			jen.Id("Step"):        jen.Op(formatFloat(p.Stop.Step)),
+			jen.Id("Iterations"):  jen.Lit(p.Stop.Iterations),
+			jen.Id("Evaluations"): jen.Lit(p.Stop.Evaluations),
+		})),
+	)
+}
+
+// emitEntry writes the two entry points:
+//
+//	func NAME([recv R,] x0 X) NAMEResult { return NAMEWithLimits([recv,] x0, NAMEDefaultLimits()) }
+//	func NAMEWithLimits([recv R,] x0 X, limits NAMELimits) NAMEResult { out := kernel(…); return NAMEResult{…} }
+func emitEntry(f *jen.File, p *Plan, kernel string) {
+	name := p.M.Name
+	params := append(receiverParam(p), jen.Id("x0").Add(xType(p)))
+	var args []jen.Code
+	var kernelArgs []jen.Code
+	if p.Shape.Receiver != "" {
+		args = append(args, jen.Id("recv"))
+		if p.Shape.Pointer {
+			kernelArgs = append(kernelArgs, jen.Id("recv"))
+		} else {
+			kernelArgs = append(kernelArgs, jen.Op("&").Id("recv"))
+		}
+	}
+	start := jen.Id("x0")
+	x := jen.Id("out").Dot("x")
+	if p.Shape.Scalar() {
+		start = jen.Index(jen.Lit(1)).Id(p.Shape.Elem).Values(jen.Id("x0"))
+		x = jen.Id("out").Dot("x").Index(jen.Lit(0))
+	}
+	kernelArgs = append(kernelArgs, start, jen.Id("limits"))
+
+	for _, line := range entryDoc(p) {
+		f.Comment(line)
+	}
+	f.Func().Id(name).Params(params...).Id(name + "Result").Block(
+		jen.Return(jen.Id(name + "WithLimits").Call(append(args, jen.Id("x0"), jen.Id(name+"DefaultLimits").Call())...)),
+	)
+	f.Commentf("%sWithLimits is %s with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.", name, name)
+	f.Func().Id(name+"WithLimits").Params(append(params, jen.Id("limits").Id(name+"Limits"))...).Id(name+"Result").Block(
+		jen.Id("out").Op(":=").Id(kernel).Call(kernelArgs...),
+		jen.Return(jen.Id(name+"Result").Values(jen.Dict{
+			jen.Id("X"):           x,
+			jen.Id("F"):           jen.Id("out").Dot("f"),
+			jen.Id("Iterations"):  jen.Id("out").Dot("iterations"),
+			jen.Id("Evaluations"): jen.Id("out").Dot("evaluations"),
+			jen.Id("Status"):      jen.Id("out").Dot("status"),
+		})),
+	)
+}
+
+// entryDoc is the doc comment of the main entry point: the policy, every
+// constant, the worst-case number of objective calls and the caution.
+func entryDoc(p *Plan) []string {
+	m := p.M
+	direction, _ := rules.Lookup(rules.Directions(), m.Direction)
+	rule, _ := rules.Lookup(rules.StepRules(), m.Rule)
+	source, _ := rules.Lookup(rules.Derivatives(), m.Derivative)
+	target := p.Shape.Objective
+	if p.Shape.Receiver != "" {
+		target = p.Shape.Receiver + "." + target
+	}
+	lines := []string{
+		fmt.Sprintf("%s minimizes %s from x0, as %s specifies.", m.Name, target, p.SpecName),
+		"",
+		fmt.Sprintf("Direction %s: %s.", m.Direction, direction.Summary),
+		fmt.Sprintf("Step rule %s: %s.", m.Rule, rule.Summary),
+		fmt.Sprintf("Derivative %s: %s.", m.Derivative, source.Summary),
+	}
+	var params []string
+	for _, prm := range rule.Params {
+		switch prm.Key {
+		case "initial":
+			params = append(params, "initial "+formatFloat(m.Initial))
+		case "shrink":
+			if !m.Interpolate {
+				params = append(params, "shrink "+formatFloat(m.Shrink))
+			}
+		case "decrease":
+			params = append(params, "c1 "+formatFloat(m.Decrease))
+		case "curvature":
+			params = append(params, "c2 "+formatFloat(m.Curvature))
+		case "trials":
+			params = append(params, fmt.Sprintf("at most %d trials per line search", m.Trials))
+		case "interpolate":
+			if m.Interpolate {
+				params = append(params, "trials by safeguarded quadratic/cubic interpolation")
+			}
+		}
+	}
+	if m.Direction == "lbfgs" {
+		params = append(params, fmt.Sprintf("memory %d pairs", m.Memory))
+	}
+	lines = append(lines, "Constants: "+strings.Join(params, ", ")+".")
+	lines = append(lines, fmt.Sprintf("Default stop: largest gradient component ≤ %s, step ≤ %s·(‖x‖∞ + 1), %d iterations, %d objective calls.",
+		formatFloat(p.Stop.Gradient), formatFloat(p.Stop.Step), p.Stop.Iterations, p.Stop.Evaluations))
+	worst, byIter := p.WorstCase()
+	perGradient := ""
+	if p.Cost > 0 {
+		perGradient = fmt.Sprintf(", %d of them per gradient", p.Cost)
+	}
+	lines = append(lines, "",
+		fmt.Sprintf("Worst case: %d objective calls%s (the evaluation cap; the iteration limit alone would allow %d). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.", worst, perGradient, byIter),
+		"Check Status.Converged() before acting on X.")
+	return lines
+}
+
+// emitTunables writes the constants the kernels read, each echoing the
+// spec key it came from:
+//
+//	const ( prefixStepInitial = 1.0 // step.initial … )
+func emitTunables(f *jen.File, p *Plan, uses map[string]bool) {
+	var defs []jen.Code
+	for _, t := range tunables {
+		if !uses[t.template] {
+			continue
+		}
+		defs = append(defs, jen.Id(p.Prefix+upperFirst(t.template)).Op("=").Op(t.value(p)).Comment(t.source))
+	}
+	f.Commentf("Tunables of %s from %s; the kernels below read them.", p.M.Name, p.SpecName)
+	f.Const().Defs(defs...)
+}

@@ -1,0 +1,242 @@
+package gen
+
+import (
+	"fmt"
+	"io"
+
+	"github.com/dave/jennifer/jen"
+)
+
+// EmitTests writes the minimizer's own test file: convergence from the
+// spec's start (and expect), zero allocations, the analytic gradient
+// against central differences, the evaluation cap, and a benchmark.
+func EmitTests(w io.Writer, p *Plan) error {
+	f := jen.NewFile(p.Shape.Package)
+	f.HeaderComment(headerLine(p.SpecName))
+	name := p.M.Name
+	helper := p.Prefix + "Test"
+
+	// func prefixTestReceiver() R { … }   (methods only)
+	if p.Shape.Receiver != "" {
+		emitTestReceiver(f, p, helper+"Receiver")
+	}
+	// func prefixTestStart() X { return … }
+	f.Commentf("%sStart is the spec's start.", helper)
+	f.Func().Id(helper + "Start").Params().Add(xType(p)).Block(jen.Return(literal(p, p.M.Start)))
+
+	call := func(limits bool) *jen.Statement {
+		args := []jen.Code{}
+		if p.Shape.Receiver != "" {
+			args = append(args, jen.Id("recv"))
+		}
+		args = append(args, jen.Id(helper+"Start").Call())
+		if limits {
+			return jen.Id(name + "WithLimits").Call(append(args, jen.Id("limits"))...)
+		}
+		return jen.Id(name).Call(args...)
+	}
+	setup := func() []jen.Code {
+		if p.Shape.Receiver == "" {
+			return nil
+		}
+		return []jen.Code{jen.Id("recv").Op(":=").Id(helper + "Receiver").Call()}
+	}
+
+	// Convergence from start, and expect.
+	body := append(setup(),
+		jen.Id("r").Op(":=").Add(call(false)),
+		jen.If(jen.Op("!").Id("r").Dot("Status").Dot("Converged").Call()).Block(
+			jen.Id("t").Dot("Fatalf").Call(jen.Lit("status %v after %d iterations and %d evaluations, f = %g, x = %v"),
+				jen.Id("r").Dot("Status"), jen.Id("r").Dot("Iterations"), jen.Id("r").Dot("Evaluations"), jen.Id("r").Dot("F"), jen.Id("r").Dot("X")),
+		),
+	)
+	if e := p.M.Expect; e != nil {
+		body = append(body, jen.Id("want").Op(":=").Add(literal(p, e.X)))
+		if p.Shape.Scalar() {
+			body = append(body, jen.If(jen.Qual("math", "Abs").Call(jen.Id("float64").Call(jen.Id("r").Dot("X").Op("-").Id("want"))).Op(">").Op(formatFloat(e.Tolerance))).Block(
+				jen.Id("t").Dot("Errorf").Call(jen.Lit("x = %v, want %v within %g"), jen.Id("r").Dot("X"), jen.Id("want"), jen.Op(formatFloat(e.Tolerance))),
+			))
+		} else {
+			body = append(body, jen.For(jen.Id("i").Op(":=").Range().Id("want")).Block(
+				jen.If(jen.Qual("math", "Abs").Call(jen.Id("float64").Call(jen.Id("r").Dot("X").Index(jen.Id("i")).Op("-").Id("want").Index(jen.Id("i")))).Op(">").Op(formatFloat(e.Tolerance))).Block(
+					jen.Id("t").Dot("Errorf").Call(jen.Lit("x = %v, want %v within %g"), jen.Id("r").Dot("X"), jen.Id("want"), jen.Op(formatFloat(e.Tolerance))),
+				),
+			))
+		}
+	}
+	f.Commentf("Test%sConverges runs %s from the spec's start and asks for convergence%s.", name, name, map[bool]string{true: " to expect.x", false: ""}[p.M.Expect != nil])
+	f.Func().Id("Test" + name + "Converges").Params(jen.Id("t").Op("*").Qual("testing", "T")).Block(body...)
+
+	// Zero allocations.
+	f.Commentf("Test%sAllocatesNothing proves a whole run makes no heap allocation.", name)
+	f.Func().Id("Test" + name + "AllocatesNothing").Params(jen.Id("t").Op("*").Qual("testing", "T")).Block(append(setup(),
+		jen.Var().Id("r").Id(name+"Result"),
+		jen.Id("allocs").Op(":=").Qual("testing", "AllocsPerRun").Call(jen.Lit(10), jen.Func().Params().Block(jen.Id("r").Op("=").Add(call(false)))),
+		jen.If(jen.Id("allocs").Op("!=").Lit(0)).Block(
+			jen.Id("t").Dot("Errorf").Call(jen.Lit("%v allocations per run, want 0 (status %v)"), jen.Id("allocs"), jen.Id("r").Dot("Status")),
+		),
+	)...)
+
+	// Evaluation cap: a run is deterministic, so every smaller cap stops it
+	// on the same path with out-of-evaluations, within the cap.
+	f.Commentf("Test%sRespectsEvaluationCap caps the run below what it needs and checks that the cap is never exceeded and that the run says why it stopped.", name)
+	f.Func().Id("Test" + name + "RespectsEvaluationCap").Params(jen.Id("t").Op("*").Qual("testing", "T")).Block(append(setup(),
+		jen.Id("needed").Op(":=").Add(call(false)).Dot("Evaluations"),
+		jen.For(jen.Id("cap").Op(":=").Lit(0), jen.Id("cap").Op("<").Id("needed"), jen.Id("cap").Op("+=").Lit(1).Op("+").Id("cap").Op("/").Lit(16)).Block(
+			jen.Id("limits").Op(":=").Id(name+"DefaultLimits").Call(),
+			jen.Id("limits").Dot("Evaluations").Op("=").Id("cap"),
+			jen.Id("r").Op(":=").Add(call(true)),
+			jen.If(jen.Id("r").Dot("Evaluations").Op(">").Id("cap").Op("||").Id("r").Dot("Status").Op("!=").Id(name+"OutOfEvaluations")).Block(
+				jen.Id("t").Dot("Fatalf").Call(jen.Lit("cap %d: %d evaluations, status %v"), jen.Id("cap"), jen.Id("r").Dot("Evaluations"), jen.Id("r").Dot("Status")),
+			),
+		),
+	)...)
+
+	if p.M.Derivative == "analytic" {
+		emitGradientCheck(f, p, helper, setup)
+	}
+
+	// Benchmark.
+	f.Commentf("Benchmark%s measures one whole run from the spec's start.", name)
+	f.Func().Id("Benchmark" + name).Params(jen.Id("b").Op("*").Qual("testing", "B")).Block(append(setup(),
+		jen.Var().Id("r").Id(name+"Result"),
+		jen.Id("b").Dot("ReportAllocs").Call(),
+		jen.For(jen.Id("b").Dot("Loop").Call()).Block(jen.Id("r").Op("=").Add(call(false))),
+		jen.Id("b").Dot("ReportMetric").Call(jen.Float64().Call(jen.Id("r").Dot("Evaluations")), jen.Lit("evaluations/op")),
+	)...)
+	return f.Render(w)
+}
+
+// literal renders values as X: a number, or an array literal.
+func literal(p *Plan, vals []float64) *jen.Statement {
+	if p.Shape.Scalar() {
+		return jen.Op(formatFloat(vals[0]))
+	}
+	items := make([]jen.Code, len(vals))
+	for i, v := range vals {
+		items[i] = jen.Op(formatFloat(v))
+	}
+	return xType(p).Values(items...)
+}
+
+// emitTestReceiver writes the receiver the tests call the objective on:
+// the spec's instance, or the zero value.
+func emitTestReceiver(f *jen.File, p *Plan, fn string) {
+	t := jen.Id(p.Shape.Receiver)
+	if p.Shape.Pointer {
+		t = jen.Op("*").Id(p.Shape.Receiver)
+	}
+	inst := p.Shape.Instance
+	var body []jen.Code
+	switch {
+	case inst.Name == "" && p.Shape.Pointer:
+		body = []jen.Code{jen.Return(jen.New(jen.Id(p.Shape.Receiver)))}
+	case inst.Name == "":
+		body = []jen.Code{jen.Var().Id("zero").Id(p.Shape.Receiver), jen.Return(jen.Id("zero"))}
+	default:
+		src := jen.Id(inst.Name)
+		if inst.Call {
+			src = jen.Id(inst.Name).Call()
+		}
+		switch inst.Adjust {
+		case "&":
+			body = []jen.Code{jen.Id("v").Op(":=").Add(src), jen.Return(jen.Op("&").Id("v"))}
+		case "*":
+			body = []jen.Code{jen.Return(jen.Op("*").Add(src))}
+		default:
+			body = []jen.Code{jen.Return(src)}
+		}
+	}
+	what := "the zero value"
+	if inst.Name != "" {
+		what = "instance " + inst.Name
+	}
+	f.Commentf("%s is the receiver the tests use: %s.", fn, what)
+	f.Func().Id(fn).Params().Add(t).Block(body...)
+}
+
+// emitGradientCheck writes a test comparing the analytic gradient with
+// central differences at the start and two nearby points.
+func emitGradientCheck(f *jen.File, p *Plan, helper string, setup func() []jen.Code) {
+	s := p.Shape
+	name := p.M.Name
+	recvPrefix := func(fn string) *jen.Statement {
+		if s.Receiver == "" {
+			return jen.Id(fn)
+		}
+		return jen.Id("recv").Dot(fn)
+	}
+	// value(x [N]T) T and gradient(x [N]T) [N]T in the user's forms.
+	var valueArg, gradBody []jen.Code
+	switch s.Arg {
+	case ArgScalar:
+		valueArg = []jen.Code{jen.Id("x").Index(jen.Lit(0))}
+	case ArgArray:
+		valueArg = []jen.Code{jen.Id("x")}
+	case ArgPointer:
+		valueArg = []jen.Code{jen.Op("&").Id("x")}
+	case ArgSlice:
+		valueArg = []jen.Code{jen.Id("x").Index(jen.Op(":"))}
+	}
+	switch s.Grad {
+	case GradScalar:
+		gradBody = []jen.Code{jen.Id("g").Index(jen.Lit(0)).Op("=").Add(recvPrefix(s.Gradient)).Call(jen.Id("x").Index(jen.Lit(0)))}
+	case GradPointer:
+		gradBody = []jen.Code{recvPrefix(s.Gradient).Call(jen.Op("&").Id("x"), jen.Op("&").Id("g"))}
+	case GradArray:
+		gradBody = []jen.Code{jen.Id("g").Op("=").Add(recvPrefix(s.Gradient)).Call(jen.Id("x"))}
+	case GradSlice:
+		gradBody = []jen.Code{recvPrefix(s.Gradient).Call(jen.Id("x").Index(jen.Op(":")), jen.Id("g").Index(jen.Op(":")))}
+	}
+	vec := jen.Index(jen.Lit(s.Dim)).Id(s.Elem)
+	var recvParam []jen.Code
+	var recvArg []jen.Code
+	if s.Receiver != "" {
+		t := jen.Id(s.Receiver)
+		if s.Pointer {
+			t = jen.Op("*").Id(s.Receiver)
+		}
+		recvParam = []jen.Code{jen.Id("recv").Add(t)}
+		recvArg = []jen.Code{jen.Id("recv")}
+	}
+	startVec := jen.Id(helper + "Start").Call()
+	if s.Scalar() {
+		startVec = vec.Clone().Values(jen.Id(helper + "Start").Call())
+	}
+	tol := "1e-6"
+	if s.Elem == "float32" {
+		tol = "2e-2"
+	}
+	f.Commentf("Test%sGradientMatchesDifferences compares %s with central differences, h = ∛u·max(1, |xᵢ|) (Nocedal & Wright 2006, eq. 8.7), at the start and two nearby points; the relative tolerance %s is common practice for this step.", name, s.Gradient, tol)
+	f.Func().Id("Test" + name + "GradientMatchesDifferences").Params(jen.Id("t").Op("*").Qual("testing", "T")).Block(append(setup(),
+		jen.Id("value").Op(":=").Func().Params(append(recvParam, jen.Id("x").Add(vec.Clone()))...).Id(s.Elem).Block(jen.Return(recvPrefix(s.Objective).Call(valueArg...))),
+		jen.Id("gradient").Op(":=").Func().Params(append(recvParam, jen.Id("x").Add(vec.Clone()))...).Params(jen.Id("g").Add(vec.Clone())).Block(append(gradBody, jen.Return())...),
+		jen.Id("start").Op(":=").Add(startVec),
+		jen.For(jen.Id("k").Op(":=").Lit(0), jen.Id("k").Op("<").Lit(3), jen.Id("k").Op("++")).Block(
+			jen.Id("x").Op(":=").Id("start"),
+			jen.For(jen.Id("i").Op(":=").Range().Id("x")).Block(
+				jen.Id("x").Index(jen.Id("i")).Op("+=").Id(s.Elem).Call(jen.Id("k")).Op("*").Lit(0.01).Op("*").Id(s.Elem).Call(jen.Id("i").Op("+").Lit(1)),
+			),
+			jen.Id("g").Op(":=").Id("gradient").Call(append(recvArg, jen.Id("x"))...),
+			jen.Id("fx").Op(":=").Qual("math", "Abs").Call(jen.Float64().Call(jen.Id("value").Call(append(recvArg, jen.Id("x"))...))),
+			jen.For(jen.Id("i").Op(":=").Range().Id("x")).Block(
+				jen.Id("h").Op(":=").Id(s.Elem).Call(jen.Op(fmt.Sprintf("%s", formatFloat(cbrtRoundoff(s.Elem)))).Op("*").Qual("math", "Max").Call(jen.Lit(1.0), jen.Qual("math", "Abs").Call(jen.Float64().Call(jen.Id("x").Index(jen.Id("i")))))),
+				jen.List(jen.Id("up"), jen.Id("down")).Op(":=").List(jen.Id("x"), jen.Id("x")),
+				jen.Id("up").Index(jen.Id("i")).Op("+=").Id("h"),
+				jen.Id("down").Index(jen.Id("i")).Op("-=").Id("h"),
+				jen.Id("approx").Op(":=").Float64().Call(jen.Id("value").Call(append(recvArg, jen.Id("up"))...).Op("-").Id("value").Call(append(recvArg, jen.Id("down"))...)).Op("/").Float64().Call(jen.Id("up").Index(jen.Id("i")).Op("-").Id("down").Index(jen.Id("i"))),
+				jen.Id("exact").Op(":=").Float64().Call(jen.Id("g").Index(jen.Id("i"))),
+				jen.If(jen.Qual("math", "Abs").Call(jen.Id("approx").Op("-").Id("exact")).Op(">").Op(tol).Op("*").Qual("math", "Max").Call(jen.Lit(1.0), jen.Qual("math", "Max").Call(jen.Qual("math", "Abs").Call(jen.Id("exact")), jen.Id("fx")))).Block(
+					jen.Id("t").Dot("Errorf").Call(jen.Lit("at %v: gradient component %d is %g, central differences give %g"), jen.Id("x"), jen.Id("i"), jen.Id("exact"), jen.Id("approx")),
+				),
+			),
+		),
+	)...)
+}
+
+func cbrtRoundoff(elem string) float64 {
+	if elem == "float32" {
+		return 0x1p-8
+	}
+	return 4.806217383937352e-06 // ∛(2⁻⁵³)
+}

@@ -1,0 +1,439 @@
+package gen
+
+import (
+	"fmt"
+	"go/token"
+	"go/types"
+	"math"
+	"os"
+	"path/filepath"
+	"strings"
+
+	"golang.org/x/tools/go/packages"
+)
+
+// ArgForm is how the objective takes its argument.
+type ArgForm int
+
+const (
+	ArgScalar  ArgForm = iota // func(x T) T
+	ArgArray                  // func(x [N]T) T
+	ArgPointer                // func(x *[N]T) T
+	ArgSlice                  // func(x []T) T, with dim from the spec
+)
+
+// GradForm is how the analytic gradient is shaped.
+type GradForm int
+
+const (
+	GradScalar  GradForm = iota // func(x T) T
+	GradPointer                 // func(x *[N]T, g *[N]T)
+	GradArray                   // func(x [N]T) [N]T
+	GradSlice                   // func(x, g []T)
+)
+
+// Shape is what nadir learned about the objective from the type checker.
+type Shape struct {
+	Package   string // package name
+	Elem      string // "float32" or "float64"
+	Dim       int    // 1 for scalar objectives
+	Arg       ArgForm
+	Receiver  string // receiver's named type, "" for plain functions
+	Pointer   bool   // whether the objective's receiver is a pointer
+	Objective string // function or method name
+	Gradient  string // method or function name of the analytic gradient
+	Grad      GradForm
+	Instance  instance
+}
+
+// instance says how the generated tests obtain a receiver.
+type instance struct {
+	Name   string // package-level variable or function; "" for the zero value
+	Call   bool   // a function to call
+	Adjust string // "", "&" or "*" to reach the receiver type
+}
+
+// Scalar reports whether the objective takes a single number.
+func (s Shape) Scalar() bool { return s.Arg == ArgScalar }
+
+// loadedPackage is one type-checked user package.
+type loadedPackage struct {
+	dir   string
+	pkg   *packages.Package
+	files map[string]bool // files nadir generated, by absolute path
+}
+
+// loadPackage type-checks the package in dir. Type errors in files nadir
+// generated are ignored: they are about to be replaced.
+func loadPackage(dir string, probs *Problems) *loadedPackage {
+	abs, err := filepath.Abs(dir)
+	if err != nil {
+		probs.add(Pos{dir, 1, 1}, "%v", err)
+		return nil
+	}
+	cfg := &packages.Config{
+		Mode: packages.NeedName | packages.NeedFiles | packages.NeedTypes | packages.NeedSyntax | packages.NeedTypesInfo,
+		Dir:  abs,
+	}
+	pkgs, err := packages.Load(cfg, ".")
+	if err != nil {
+		probs.add(Pos{dir, 1, 1}, "loading the Go package: %v", err)
+		return nil
+	}
+	if len(pkgs) != 1 || pkgs[0].Types == nil {
+		probs.add(Pos{dir, 1, 1}, "no Go package in %s", dir)
+		return nil
+	}
+	lp := &loadedPackage{dir: abs, pkg: pkgs[0], files: map[string]bool{}}
+	for _, f := range lp.pkg.GoFiles {
+		if isGenerated(f) {
+			lp.files[f] = true
+		}
+	}
+	for _, e := range lp.pkg.Errors {
+		for _, problem := range splitPackageError(e, dir) {
+			if abs, _ := filepath.Abs(problem.Pos.File); lp.files[abs] {
+				continue // about to be replaced
+			}
+			*probs = append(*probs, problem)
+		}
+	}
+	return lp
+}
+
+// splitPackageError turns one go/packages error into positioned problems.
+// A failed compile arrives as one list error, "# pkg" followed by one
+// "file:line:col: msg" line per compiler error; each becomes its own
+// problem so that errors in nadir's own files can be told apart.
+func splitPackageError(e packages.Error, dir string) []Problem {
+	if !strings.HasPrefix(e.Msg, "# ") {
+		return []Problem{{Pos: parseErrorPos(e.Pos, dir), Msg: e.Msg}}
+	}
+	var out []Problem
+	for _, line := range strings.Split(e.Msg, "\n")[1:] {
+		file, rest, ok := strings.Cut(line, ": ")
+		if !ok {
+			continue
+		}
+		pos := parseErrorPos(file, dir)
+		if !filepath.IsAbs(pos.File) && strings.HasPrefix(file, ".") {
+			pos.File = displayPath(filepath.Join(dir, pos.File))
+		}
+		out = append(out, Problem{Pos: pos, Msg: rest})
+	}
+	return out
+}
+
+// parseErrorPos turns "file:line:col" into a Pos.
+func parseErrorPos(s, dir string) Pos {
+	var p Pos
+	parts := strings.Split(s, ":")
+	if len(parts) >= 3 {
+		fmt.Sscan(parts[len(parts)-2], &p.Line)
+		fmt.Sscan(parts[len(parts)-1], &p.Col)
+		file := strings.Join(parts[:len(parts)-2], ":")
+		if abs, err := filepath.Abs(file); err == nil && filepath.IsAbs(file) {
+			file = abs
+		}
+		p.File = displayPath(file)
+		return p
+	}
+	return Pos{File: dir, Line: 1, Col: 1}
+}
+
+// isGenerated reports whether a file starts with nadir's header.
+func isGenerated(path string) bool {
+	data, err := os.ReadFile(path)
+	return err == nil && hasHeader(data)
+}
+
+// displayPath shortens an absolute path to one relative to the working
+// directory when it lies below it.
+func displayPath(path string) string {
+	wd, err := os.Getwd()
+	if err != nil {
+		return path
+	}
+	if rel, err := filepath.Rel(wd, path); err == nil && !strings.HasPrefix(rel, "..") {
+		return rel
+	}
+	return path
+}
+
+func (lp *loadedPackage) position(p token.Pos) Pos {
+	position := lp.pkg.Fset.Position(p)
+	return Pos{File: displayPath(position.Filename), Line: position.Line, Col: position.Column}
+}
+
+const acceptedObjectives = `accepted forms, T float32 or float64: func(x T) T, func(x [N]T) T, func(x *[N]T) T, func(x []T) T (with dim), each also as a method`
+
+const acceptedGradients = `accepted gradient forms: func(x T) T for scalar objectives; func(x *[N]T, g *[N]T), func(x [N]T) [N]T or func(x, g []T) for vectors; a method on the objective's receiver type when the objective is a method`
+
+// resolve finds the minimizer's objective, gradient and instance and
+// checks their signatures and the spec keys that depend on them.
+func (lp *loadedPackage) resolve(spec *Spec, m *Minimizer, probs *Problems) (Shape, bool) {
+	ix := spec.pos
+	at := func(k string) Pos { return ix.value(m.keyPrefix + "." + k) }
+	shape := Shape{Package: lp.pkg.Name}
+	before := len(*probs)
+
+	fn, recvType := lp.lookupFunc(m.Objective, nil, at("objective"), "objective", probs)
+	if fn == nil {
+		return shape, false
+	}
+	sig := fn.Type().(*types.Signature)
+	shape.Objective = fn.Name()
+	if recvType != nil {
+		shape.Receiver = recvType.Obj().Name()
+		_, shape.Pointer = sig.Recv().Type().(*types.Pointer)
+	}
+	if !lp.objectiveShape(sig, &shape) {
+		probs.add(lp.position(fn.Pos()), "objective %s has signature %s; %s", m.Objective, signatureText(sig), acceptedObjectives)
+		return shape, false
+	}
+	switch {
+	case shape.Arg == ArgSlice && m.Dim == 0:
+		probs.add(at("objective"), "objective %s takes a slice: set dim to the number of unknowns", m.Objective)
+	case shape.Arg == ArgSlice:
+		shape.Dim = m.Dim
+	case m.Dim != 0:
+		probs.add(ix.key(m.keyPrefix+".dim"), "dim is only for objectives that take a slice; %s fixes the dimension at %d", m.Objective, shape.Dim)
+	}
+
+	if m.Derivative == "analytic" {
+		lp.resolveGradient(m, &shape, recvType, at("gradient"), probs)
+	}
+	lp.resolveInstance(m, &shape, recvType, at, ix, probs)
+
+	start, scalar, ok := numbers(m.start)
+	switch {
+	case m.start == nil:
+	case !ok:
+		probs.add(at("start"), "start must be a number or an array of numbers")
+	case shape.Scalar() && !scalar:
+		probs.add(at("start"), "start must be a single number: %s takes a scalar", m.Objective)
+	case !shape.Scalar() && scalar:
+		probs.add(at("start"), "start must be an array of %d numbers", shape.Dim)
+	case shape.Dim > 0 && len(start) != shape.Dim:
+		probs.add(at("start"), "start has %d values, the objective has %d unknowns", len(start), shape.Dim)
+	}
+	m.Start = start
+	if m.Expect != nil && m.expectX != nil {
+		x, scalar, ok := numbers(m.expectX)
+		switch {
+		case !ok:
+			probs.add(at("expect.x"), "expect.x must be a number or an array of numbers")
+		case shape.Scalar() != scalar || (!scalar && len(x) != shape.Dim):
+			probs.add(at("expect.x"), "expect.x must have the shape of start (%d values)", shape.Dim)
+		}
+		m.Expect.X = x
+	}
+	for _, v := range start {
+		if math.IsNaN(v) || math.IsInf(v, 0) {
+			probs.add(at("start"), "start must be finite")
+			break
+		}
+	}
+	return shape, len(*probs) == before
+}
+
+// lookupFunc finds "Func" or "Type.Method" in the package. When onType is
+// set, a bare name is looked up as a method of that type first.
+func (lp *loadedPackage) lookupFunc(ref string, onType *types.Named, pos Pos, what string, probs *Problems) (*types.Func, *types.Named) {
+	scope := lp.pkg.Types.Scope()
+	typeName, method, isMethod := strings.Cut(ref, ".")
+	if !isMethod && onType != nil {
+		typeName, method, isMethod = onType.Obj().Name(), ref, true
+	}
+	if isMethod {
+		obj := scope.Lookup(typeName)
+		tn, ok := obj.(*types.TypeName)
+		if !ok {
+			probs.add(pos, "%s %s: no type %s in package %s", what, ref, typeName, lp.pkg.Name)
+			return nil, nil
+		}
+		named, ok := types.Unalias(tn.Type()).(*types.Named)
+		if !ok || named.TypeParams().Len() > 0 {
+			probs.add(lp.position(tn.Pos()), "%s %s: %s must be a defined, non-generic type", what, ref, typeName)
+			return nil, nil
+		}
+		if onType != nil && named != onType {
+			probs.add(pos, "%s %s must be a method of %s, the objective's receiver type", what, ref, onType.Obj().Name())
+			return nil, nil
+		}
+		sel := types.NewMethodSet(types.NewPointer(named)).Lookup(lp.pkg.Types, method)
+		if sel == nil {
+			probs.add(pos, "%s %s: type %s has no method %s", what, ref, typeName, method)
+			return nil, nil
+		}
+		return sel.Obj().(*types.Func), named
+	}
+	obj := scope.Lookup(ref)
+	if obj == nil {
+		probs.add(pos, "%s %s: no such function in package %s", what, ref, lp.pkg.Name)
+		return nil, nil
+	}
+	fn, ok := obj.(*types.Func)
+	if !ok {
+		probs.add(lp.position(obj.Pos()), "%s %s is not a function", what, ref)
+		return nil, nil
+	}
+	return fn, nil
+}
+
+// floatKind returns "float32" or "float64" for exactly those types.
+func floatKind(t types.Type) string {
+	if b, ok := t.(*types.Basic); ok {
+		switch b.Kind() {
+		case types.Float32:
+			return "float32"
+		case types.Float64:
+			return "float64"
+		}
+	}
+	return ""
+}
+
+// arrayOf returns the length of an array of elem, or -1.
+func arrayOf(t types.Type, elem string) int {
+	if a, ok := types.Unalias(t).(*types.Array); ok && floatKind(types.Unalias(a.Elem())) == elem && elem != "" {
+		return int(a.Len())
+	}
+	return -1
+}
+
+func sliceOf(t types.Type, elem string) bool {
+	s, ok := types.Unalias(t).(*types.Slice)
+	return ok && elem != "" && floatKind(types.Unalias(s.Elem())) == elem
+}
+
+func pointerTo(t types.Type) types.Type {
+	if p, ok := types.Unalias(t).(*types.Pointer); ok {
+		return p.Elem()
+	}
+	return nil
+}
+
+// objectiveShape matches the objective's signature against the accepted
+// forms and fills in the element type, form and dimension.
+func (lp *loadedPackage) objectiveShape(sig *types.Signature, shape *Shape) bool {
+	if sig.Params().Len() != 1 || sig.Results().Len() != 1 || sig.Variadic() || sig.TypeParams().Len() > 0 {
+		return false
+	}
+	elem := floatKind(types.Unalias(sig.Results().At(0).Type()))
+	param := sig.Params().At(0).Type()
+	shape.Elem = elem
+	switch {
+	case elem == "":
+		return false
+	case floatKind(types.Unalias(param)) == elem:
+		shape.Arg, shape.Dim = ArgScalar, 1
+	case arrayOf(param, elem) > 0:
+		shape.Arg, shape.Dim = ArgArray, arrayOf(param, elem)
+	case pointerTo(param) != nil && arrayOf(pointerTo(param), elem) > 0:
+		shape.Arg, shape.Dim = ArgPointer, arrayOf(pointerTo(param), elem)
+	case sliceOf(param, elem):
+		shape.Arg = ArgSlice
+	default:
+		return false
+	}
+	return true
+}
+
+// resolveGradient finds the analytic gradient and checks its form against
+// the objective's shape.
+func (lp *loadedPackage) resolveGradient(m *Minimizer, shape *Shape, recvType *types.Named, pos Pos, probs *Problems) {
+	fn, gradRecv := lp.lookupFunc(m.Gradient, recvType, pos, "gradient", probs)
+	if fn == nil {
+		return
+	}
+	if (gradRecv == nil) != (recvType == nil) {
+		if recvType != nil {
+			probs.add(pos, "gradient %s must be a method of %s, like the objective", m.Gradient, recvType.Obj().Name())
+		} else {
+			probs.add(pos, "gradient %s must be a plain function, like the objective", m.Gradient)
+		}
+		return
+	}
+	sig := fn.Type().(*types.Signature)
+	params, results := sig.Params(), sig.Results()
+	elem, dim := shape.Elem, shape.Dim
+	isArray := func(t types.Type) bool { return arrayOf(t, elem) == dim }
+	isPointer := func(t types.Type) bool { p := pointerTo(t); return p != nil && isArray(p) }
+	ok := !sig.Variadic() && sig.TypeParams().Len() == 0
+	switch {
+	case !ok:
+	case shape.Scalar():
+		ok = params.Len() == 1 && results.Len() == 1 &&
+			floatKind(types.Unalias(params.At(0).Type())) == elem && floatKind(types.Unalias(results.At(0).Type())) == elem
+		shape.Grad = GradScalar
+	case params.Len() == 2 && results.Len() == 0 && isPointer(params.At(0).Type()) && isPointer(params.At(1).Type()):
+		shape.Grad = GradPointer
+	case params.Len() == 1 && results.Len() == 1 && isArray(params.At(0).Type()) && isArray(results.At(0).Type()):
+		shape.Grad = GradArray
+	case params.Len() == 2 && results.Len() == 0 && sliceOf(params.At(0).Type(), elem) && sliceOf(params.At(1).Type(), elem):
+		shape.Grad = GradSlice
+	default:
+		ok = false
+	}
+	if !ok {
+		want := fmt.Sprintf("[%d]%s", dim, elem)
+		if shape.Scalar() {
+			want = elem
+		}
+		probs.add(lp.position(fn.Pos()), "gradient %s has signature %s, which does not fit an objective of %s; %s", m.Gradient, signatureText(sig), want, acceptedGradients)
+		return
+	}
+	shape.Gradient = fn.Name()
+}
+
+// resolveInstance checks the receiver source the generated tests use.
+func (lp *loadedPackage) resolveInstance(m *Minimizer, shape *Shape, recvType *types.Named, at func(string) Pos, ix *positions, probs *Problems) {
+	if recvType == nil {
+		if m.Instance != "" {
+			probs.add(ix.key(m.keyPrefix+".instance"), "instance is only for objectives that are methods; %s is a function", m.Objective)
+		}
+		return
+	}
+	if m.Instance == "" {
+		return
+	}
+	obj := lp.pkg.Types.Scope().Lookup(m.Instance)
+	var t types.Type
+	inst := instance{Name: m.Instance}
+	switch o := obj.(type) {
+	case *types.Var:
+		t = o.Type()
+	case *types.Func:
+		sig := o.Type().(*types.Signature)
+		if sig.Params().Len() == 0 && sig.Results().Len() == 1 {
+			t, inst.Call = sig.Results().At(0).Type(), true
+		}
+	case nil:
+		probs.add(at("instance"), "instance %s: no such variable or function in package %s", m.Instance, lp.pkg.Name)
+		return
+	}
+	want := types.Type(recvType)
+	if shape.Pointer {
+		want = types.NewPointer(recvType)
+	}
+	switch {
+	case t == nil:
+		probs.add(at("instance"), "instance %s must be a package-level variable or a func() returning %s", m.Instance, types.TypeString(want, types.RelativeTo(lp.pkg.Types)))
+		return
+	case types.Identical(t, want):
+	case shape.Pointer && types.Identical(t, recvType):
+		inst.Adjust = "&"
+	case !shape.Pointer && types.Identical(t, types.NewPointer(recvType)):
+		inst.Adjust = "*"
+	default:
+		probs.add(at("instance"), "instance %s has type %s; want %s or %s", m.Instance,
+			types.TypeString(t, types.RelativeTo(lp.pkg.Types)), recvType.Obj().Name(), "*"+recvType.Obj().Name())
+		return
+	}
+	shape.Instance = inst
+}
+
+func signatureText(sig *types.Signature) string {
+	return "func" + strings.TrimPrefix(types.TypeString(sig, func(*types.Package) string { return "" }), "func")
+}

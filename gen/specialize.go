@@ -1,0 +1,553 @@
+package gen
+
+import (
+	"bytes"
+	"fmt"
+	"go/ast"
+	"go/importer"
+	"go/parser"
+	"go/printer"
+	"go/token"
+	"go/types"
+	"io/fs"
+	"regexp"
+	"sort"
+	"strconv"
+	"strings"
+	"sync"
+
+	"golang.org/x/tools/go/ast/astutil"
+
+	"github.com/nadir-opt/nadir/templates"
+)
+
+// kernelSource is the templates package, parsed and type-checked once.
+type kernelSource struct {
+	fset  *token.FileSet
+	files []*ast.File
+	info  *types.Info
+	pkg   *types.Package
+	units map[string]*unit // by package-level name
+	order []string         // unit names in source order
+}
+
+// unit is one top-level declaration of the templates, with the methods of
+// a type, or a whole const/var group.
+type unit struct {
+	name  string
+	decls []ast.Decl
+	file  *ast.File
+}
+
+var (
+	importMu     sync.Mutex
+	importFset   = token.NewFileSet()
+	mathImporter = importer.ForCompiler(importFset, "source", nil)
+)
+
+// loadKernels parses and type-checks the embedded templates package. Each
+// specialization gets a fresh tree, since the passes rewrite it in place.
+func loadKernels() (*kernelSource, error) {
+	return parseKernels(templates.Source)
+}
+
+func parseKernels(src fs.FS) (*kernelSource, error) {
+	ks := &kernelSource{fset: importFset, units: map[string]*unit{}}
+	names, err := fs.Glob(src, "*.go")
+	if err != nil {
+		return nil, err
+	}
+	sort.Strings(names)
+	for _, name := range names {
+		if strings.HasSuffix(name, "_test.go") {
+			continue
+		}
+		data, err := fs.ReadFile(src, name)
+		if err != nil {
+			return nil, err
+		}
+		importMu.Lock()
+		f, err := parser.ParseFile(ks.fset, name, data, parser.ParseComments)
+		importMu.Unlock()
+		if err != nil {
+			return nil, err
+		}
+		ks.files = append(ks.files, f)
+	}
+	ks.info = &types.Info{
+		Types: map[ast.Expr]types.TypeAndValue{},
+		Defs:  map[*ast.Ident]types.Object{},
+		Uses:  map[*ast.Ident]types.Object{},
+	}
+	importMu.Lock()
+	conf := types.Config{Importer: mathImporter}
+	ks.pkg, err = conf.Check("templates", ks.fset, ks.files, ks.info)
+	importMu.Unlock()
+	if err != nil {
+		return nil, fmt.Errorf("templates do not type-check: %v", err)
+	}
+	for _, f := range ks.files {
+		for _, d := range f.Decls {
+			var name string
+			switch d := d.(type) {
+			case *ast.FuncDecl:
+				name = d.Name.Name
+				if d.Recv != nil {
+					name = receiverBase(d.Recv.List[0].Type)
+				}
+			case *ast.GenDecl:
+				if d.Tok == token.IMPORT {
+					continue
+				}
+				name = specNames(d.Specs[0])[0]
+				for _, s := range d.Specs {
+					for _, n := range specNames(s) {
+						ks.units[n] = ks.unitFor(name, f)
+					}
+				}
+			}
+			u := ks.unitFor(name, f)
+			u.decls = append(u.decls, d)
+		}
+	}
+	return ks, nil
+}
+
+func (ks *kernelSource) unitFor(name string, f *ast.File) *unit {
+	u, ok := ks.units[name]
+	if !ok {
+		u = &unit{name: name, file: f}
+		ks.units[name] = u
+		ks.order = append(ks.order, name)
+	}
+	return u
+}
+
+func receiverBase(e ast.Expr) string {
+	if s, ok := e.(*ast.StarExpr); ok {
+		e = s.X
+	}
+	return e.(*ast.Ident).Name
+}
+
+func specNames(s ast.Spec) []string {
+	switch s := s.(type) {
+	case *ast.TypeSpec:
+		return []string{s.Name.Name}
+	case *ast.ValueSpec:
+		var names []string
+		for _, n := range s.Names {
+			names = append(names, n.Name)
+		}
+		return names
+	}
+	return nil
+}
+
+// kernelChoice is what a plan asks of the templates.
+type kernelChoice struct {
+	shape Shape
+	// pick maps each dispatcher to the alternative the spec chose, e.g.
+	// "lineSearch" → "armijoSearch".
+	pick map[string]string
+	// provided are names the glue emits: stand-in types and constants,
+	// mapped to their names in the generated file.
+	provided map[string]string
+	prefix   string // lowerCamel minimizer name
+}
+
+// specializedKernels holds the rewritten declarations and what they need.
+type specializedKernels struct {
+	source    []byte          // printed declarations
+	uses      map[string]bool // provided names the kernels reference
+	usesMath  bool
+	entryName string // the generated name of minimize
+}
+
+// Stand-ins of the templates that gen never copies: gen replaces them or
+// the glue emits them.
+var standIns = map[string]bool{
+	"elem": true, "dim": true, "vec": true, "receiver": true, "status": true, "limits": true,
+	"statusGradientSmall": true, "Source": true,
+	"derivativeSource": true, "sourceAnalytic": true, "kindSteepest": true, "ruleFixed": true, "backtrackShrink": true,
+}
+
+// specialize copies the declarations the plan needs, in the order they are
+// first reached from minimize, and rewrites them for the spec's shape.
+func specialize(c kernelChoice) (*specializedKernels, error) {
+	ks, err := loadKernels()
+	if err != nil {
+		return nil, err
+	}
+	out := &specializedKernels{uses: map[string]bool{}}
+	// Decide the generated name of every template object reached.
+	newName := map[types.Object]string{}
+	var reached []*unit
+	seen := map[*unit]bool{}
+	var visit func(u *unit)
+	visitObj := func(obj types.Object) {
+		if obj == nil || obj.Pkg() != ks.pkg || obj.Parent() != ks.pkg.Scope() {
+			return
+		}
+		if _, done := newName[obj]; done {
+			return
+		}
+		name := obj.Name()
+		target := name
+		if alt, ok := c.pick[name]; ok {
+			target = alt
+		}
+		if gen, ok := c.provided[name]; ok {
+			newName[obj] = gen
+			out.uses[name] = true
+			return
+		}
+		if standIns[ks.units[name].name] {
+			return
+		}
+		newName[obj] = c.prefix + upperFirst(name)
+		if alt := ks.pkg.Scope().Lookup(target); alt != obj {
+			newName[alt] = c.prefix + upperFirst(name)
+		}
+		visit(ks.units[target])
+	}
+	visit = func(u *unit) {
+		if seen[u] {
+			return
+		}
+		seen[u] = true
+		reached = append(reached, u)
+		for _, d := range u.decls {
+			ast.Inspect(d, func(n ast.Node) bool {
+				if id, ok := n.(*ast.Ident); ok {
+					visitObj(ks.info.Uses[id])
+				}
+				return true
+			})
+		}
+	}
+	root := ks.pkg.Scope().Lookup("minimize")
+	newName[root] = c.prefix + "Minimize"
+	out.entryName = newName[root]
+	visit(ks.units["minimize"])
+
+	rw := &rewriter{ks: ks, c: c, newName: newName}
+	var buf bytes.Buffer
+	for _, u := range reached {
+		for _, d := range u.decls {
+			copyDecl := rw.rewrite(d)
+			rw.renameComments(copyDecl, u.file)
+			if err := printer.Fprint(&buf, ks.fset, &printer.CommentedNode{Node: copyDecl, Comments: commentsWithin(u.file, d)}); err != nil {
+				return nil, err
+			}
+			buf.WriteString("\n\n")
+		}
+	}
+	out.source = buf.Bytes()
+	out.usesMath = rw.usesMath
+	return out, nil
+}
+
+// commentsWithin returns the file's comments that lie inside d, doc
+// comment included.
+func commentsWithin(f *ast.File, d ast.Decl) []*ast.CommentGroup {
+	start := d.Pos()
+	switch d := d.(type) {
+	case *ast.FuncDecl:
+		if d.Doc != nil {
+			start = d.Doc.Pos()
+		}
+	case *ast.GenDecl:
+		if d.Doc != nil {
+			start = d.Doc.Pos()
+		}
+	}
+	var out []*ast.CommentGroup
+	for _, cg := range f.Comments {
+		if cg.Pos() >= start && cg.End() <= d.End() {
+			out = append(out, cg)
+		}
+	}
+	return out
+}
+
+// rewriter applies the specialization passes to one declaration.
+type rewriter struct {
+	ks       *kernelSource
+	c        kernelChoice
+	newName  map[types.Object]string
+	usesMath bool
+}
+
+func (rw *rewriter) obj(id *ast.Ident) types.Object {
+	if o := rw.ks.info.Uses[id]; o != nil {
+		return o
+	}
+	return rw.ks.info.Defs[id]
+}
+
+// rewrite returns a rewritten copy of d. The passes, in order:
+//
+//   - rewrite recv.objective(p) and recv.gradient(p, g) to calls of the
+//     user's functions in the form their signatures take;
+//   - rewrite T(x) to x when elem is float64 and x is already float64;
+//   - drop the recv parameter and argument when the objective is a plain
+//     function;
+//   - rewrite elem to float32/float64, vec to [N]T, dim to N and receiver
+//     to the user's receiver type;
+//   - rename every package-level template name to its generated name.
+func (rw *rewriter) rewrite(d ast.Decl) ast.Decl {
+	// The passes run after a node's children (post-order), so a node's
+	// type information is read while the node itself is still the one the
+	// type checker saw; replaced children are new nodes without it.
+	s := rw.c.shape
+	result := astutil.Apply(d, nil, func(cur *astutil.Cursor) bool {
+		switch n := cur.Node().(type) {
+		case *ast.ExprStmt:
+			if call, ok := n.X.(*ast.CallExpr); ok && rw.isRecvCall(call, "gradient") {
+				cur.Replace(rw.gradientCall(call))
+			}
+		case *ast.CallExpr:
+			if rw.isRecvCall(n, "objective") {
+				cur.Replace(rw.objectiveCall(n))
+				return true
+			}
+			if s.Elem == "float64" && len(n.Args) == 1 {
+				// elem has already been rewritten to float64 here.
+				if id, ok := n.Fun.(*ast.Ident); ok && id.Name == "float64" {
+					if tv, ok := rw.ks.info.Types[n.Args[0]]; ok && tv.Value == nil && !isUntyped(tv.Type) && types.Identical(tv.Type, types.Typ[types.Float64]) {
+						cur.Replace(n.Args[0])
+						return true
+					}
+				}
+			}
+			if s.Receiver == "" {
+				n.Args = rw.withoutRecv(n.Args)
+			}
+		case *ast.FieldList:
+			if s.Receiver == "" {
+				n.List = rw.withoutRecvFields(n.List)
+			}
+		case *ast.SelectorExpr:
+			if id, ok := n.X.(*ast.Ident); ok && id.Name == "math" {
+				rw.usesMath = true
+			}
+		case *ast.Ident:
+			if cur.Name() == "Sel" {
+				return true // a field or method name, never a template name
+			}
+			rw.replaceIdent(cur, n)
+		}
+		return true
+	})
+	return result.(ast.Decl)
+}
+
+func (rw *rewriter) replaceIdent(cur *astutil.Cursor, id *ast.Ident) {
+	s := rw.c.shape
+	o := rw.obj(id)
+	if o == nil || o.Parent() != rw.ks.pkg.Scope() {
+		return
+	}
+	switch o.Name() {
+	case "elem":
+		cur.Replace(&ast.Ident{Name: s.Elem, NamePos: id.Pos()})
+	case "vec":
+		cur.Replace(&ast.ArrayType{Lbrack: id.Pos(), Len: intLit(s.Dim, id.Pos()), Elt: &ast.Ident{Name: s.Elem, NamePos: id.Pos()}})
+	case "dim":
+		cur.Replace(intLit(s.Dim, id.Pos()))
+	case "receiver":
+		cur.Replace(&ast.Ident{Name: s.Receiver, NamePos: id.Pos()})
+	default:
+		if n, ok := rw.newName[o]; ok {
+			id.Name = n
+		}
+	}
+}
+
+func intLit(n int, pos token.Pos) *ast.BasicLit {
+	return &ast.BasicLit{Kind: token.INT, Value: strconv.Itoa(n), ValuePos: pos}
+}
+
+func isUntyped(t types.Type) bool {
+	b, ok := t.(*types.Basic)
+	return ok && b.Info()&types.IsUntyped != 0
+}
+
+// isRecvCall reports whether call is recv.<method>(…) on the stand-in.
+func (rw *rewriter) isRecvCall(call *ast.CallExpr, method string) bool {
+	sel, ok := call.Fun.(*ast.SelectorExpr)
+	if !ok || sel.Sel.Name != method {
+		return false
+	}
+	id, ok := sel.X.(*ast.Ident)
+	return ok && rw.isRecvVar(id)
+}
+
+// isRecvVar reports whether id is a variable of the stand-in *receiver.
+func (rw *rewriter) isRecvVar(id *ast.Ident) bool {
+	v, ok := rw.obj(id).(*types.Var)
+	if !ok {
+		return false
+	}
+	p, ok := v.Type().(*types.Pointer)
+	return ok && p.Elem() == rw.ks.pkg.Scope().Lookup("receiver").Type()
+}
+
+func (rw *rewriter) withoutRecv(args []ast.Expr) []ast.Expr {
+	var kept []ast.Expr
+	for _, a := range args {
+		if id, ok := a.(*ast.Ident); ok && rw.isRecvVar(id) {
+			continue
+		}
+		kept = append(kept, a)
+	}
+	return kept
+}
+
+func (rw *rewriter) withoutRecvFields(fields []*ast.Field) []*ast.Field {
+	var kept []*ast.Field
+	for _, f := range fields {
+		if len(f.Names) == 1 && rw.isRecvVar(f.Names[0]) {
+			continue
+		}
+		kept = append(kept, f)
+	}
+	return kept
+}
+
+// callee is the user's function, as recv.Name for methods.
+func (rw *rewriter) callee(name string) ast.Expr {
+	if rw.c.shape.Receiver == "" {
+		return ast.NewIdent(name)
+	}
+	return &ast.SelectorExpr{X: ast.NewIdent("recv"), Sel: ast.NewIdent(name)}
+}
+
+// objectiveCall rewrites recv.objective(p), p a *vec, to the user's form:
+// f(p[0]), f(*p), f(p) or f(p[:]).
+func (rw *rewriter) objectiveCall(call *ast.CallExpr) ast.Expr {
+	p := call.Args[0]
+	var arg ast.Expr
+	switch rw.c.shape.Arg {
+	case ArgScalar:
+		arg = index0(p)
+	case ArgArray:
+		arg = deref(p)
+	case ArgPointer:
+		arg = p
+	case ArgSlice:
+		arg = fullSlice(p)
+	}
+	return &ast.CallExpr{Fun: rw.callee(rw.c.shape.Objective), Args: []ast.Expr{arg}, Lparen: call.Lparen, Rparen: call.Rparen}
+}
+
+// gradientCall rewrites the statement recv.gradient(p, g) to the user's
+// form: g[0] = grad(p[0]); grad(p, g); *g = grad(*p); grad(p[:], g[:]).
+func (rw *rewriter) gradientCall(call *ast.CallExpr) ast.Stmt {
+	p, g := call.Args[0], call.Args[1]
+	fun := rw.callee(rw.c.shape.Gradient)
+	mk := func(args ...ast.Expr) *ast.CallExpr {
+		return &ast.CallExpr{Fun: fun, Args: args, Lparen: call.Lparen, Rparen: call.Rparen}
+	}
+	switch rw.c.shape.Grad {
+	case GradScalar:
+		return &ast.AssignStmt{Lhs: []ast.Expr{index0(g)}, Tok: token.ASSIGN, Rhs: []ast.Expr{mk(index0(p))}}
+	case GradArray:
+		return &ast.AssignStmt{Lhs: []ast.Expr{deref(g)}, Tok: token.ASSIGN, Rhs: []ast.Expr{mk(deref(p))}}
+	case GradSlice:
+		return &ast.ExprStmt{X: mk(fullSlice(p), fullSlice(g))}
+	default:
+		return &ast.ExprStmt{X: mk(p, g)}
+	}
+}
+
+// deref returns *p, or x when p is &x.
+func deref(p ast.Expr) ast.Expr {
+	if u, ok := p.(*ast.UnaryExpr); ok && u.Op == token.AND {
+		return u.X
+	}
+	return &ast.StarExpr{X: p}
+}
+
+// index0 returns p[0] (Go indexes through a pointer to an array), or x[0]
+// for &x.
+func index0(p ast.Expr) ast.Expr {
+	if u, ok := p.(*ast.UnaryExpr); ok && u.Op == token.AND {
+		p = u.X
+	}
+	return &ast.IndexExpr{X: p, Index: intLit(0, token.NoPos)}
+}
+
+// fullSlice returns p[:], or x[:] for &x.
+func fullSlice(p ast.Expr) ast.Expr {
+	base := p
+	if u, ok := p.(*ast.UnaryExpr); ok && u.Op == token.AND {
+		base = u.X
+	}
+	return &ast.SliceExpr{X: base}
+}
+
+var wordPattern = regexp.MustCompile(`[A-Za-z_][A-Za-z0-9_]*`)
+
+// renameComments rewrites template names inside the declaration's
+// comments to their generated names, so comments keep naming the right
+// thing. Plain words ("direction", "finite") are left alone unless they
+// open the declaration's doc comment as its own name; camelCase words are
+// always names.
+func (rw *rewriter) renameComments(d ast.Decl, f *ast.File) {
+	names := map[string]string{}
+	for o, n := range rw.newName {
+		names[o.Name()] = n
+	}
+	own := declName(d)
+	for _, cg := range commentsWithin(f, d) {
+		for i, c := range cg.List {
+			first := i == 0
+			c.Text = wordPattern.ReplaceAllStringFunc(c.Text, func(w string) string {
+				n, ok := names[w]
+				opening := first && w == own
+				first = false
+				if ok && (opening || strings.ToLower(w) != w) {
+					return n
+				}
+				return w
+			})
+		}
+	}
+}
+
+// declName is the template name a declaration introduces.
+func declName(d ast.Decl) string {
+	switch d := d.(type) {
+	case *ast.FuncDecl:
+		return d.Name.Name
+	case *ast.GenDecl:
+		if len(d.Specs) > 0 {
+			return specNames(d.Specs[0])[0]
+		}
+	}
+	return ""
+}
+
+func upperFirst(s string) string {
+	if s == "" {
+		return s
+	}
+	return strings.ToUpper(s[:1]) + s[1:]
+}
+
+// lowerFirst lowers a leading initialism: FitCurve → fitCurve, URLFit → urlFit.
+func lowerFirst(s string) string {
+	r := []rune(s)
+	for i := range r {
+		if r[i] < 'A' || r[i] > 'Z' {
+			break
+		}
+		if i > 0 && i+1 < len(r) && r[i+1] >= 'a' && r[i+1] <= 'z' {
+			break
+		}
+		r[i] += 'a' - 'A'
+	}
+	return string(r)
+}
