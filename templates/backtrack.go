@@ -5,7 +5,7 @@ package templates
 // loop with a hand-picked step: it converges only when stepInitial is below
 // 2/L for an L-Lipschitz gradient (Nocedal & Wright 2006, §3.3, recalled
 // from memory) and otherwise oscillates or diverges.
-func fixedStep(recv *receiver, x *vec, fx elem, d *vec, slope, first elem, budget int, xt, gt *vec) lineResult {
+func fixedStep(recv *receiver, x *vec, fx elem, d *vec, slope, first, tiny elem, budget int, xt, gt *vec) lineResult {
 	if budget < 1 {
 		return lineResult{end: searchOutOfBudget}
 	}
@@ -21,10 +21,13 @@ func fixedStep(recv *receiver, x *vec, fx elem, d *vec, slope, first elem, budge
 // all, f(x + t·d) < f(x), taking t ← next trial each time. Simple decrease
 // does not guarantee convergence (Nocedal & Wright 2006, §3.1, the example
 // around Fig. 3.2), which is why armijoSearch exists.
-func decreaseSearch(recv *receiver, x *vec, fx elem, d *vec, slope, first elem, budget int, xt, gt *vec) lineResult {
+func decreaseSearch(recv *receiver, x *vec, fx elem, d *vec, slope, first, tiny elem, budget int, xt, gt *vec) lineResult {
 	t := first
 	var previous, fPrevious elem
 	for trial := 0; trial < stepTrials; trial++ {
+		if t <= tiny {
+			return lineResult{calls: trial, end: tinyOrExhausted(previous == 0 || finite(fPrevious))}
+		}
 		if trial >= budget {
 			return lineResult{calls: trial, end: searchOutOfBudget}
 		}
@@ -51,10 +54,13 @@ func decreaseSearch(recv *receiver, x *vec, fx elem, d *vec, slope, first elem, 
 //     first partial derivatives, Pacific J. Math. 16(1):1–3, 1966.
 //   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
 //     Springer, 2006, §3.1 and §3.5.
-func armijoSearch(recv *receiver, x *vec, fx elem, d *vec, slope, first elem, budget int, xt, gt *vec) lineResult {
+func armijoSearch(recv *receiver, x *vec, fx elem, d *vec, slope, first, tiny elem, budget int, xt, gt *vec) lineResult {
 	t := first
 	var previous, fPrevious elem
 	for trial := 0; trial < stepTrials; trial++ {
+		if t <= tiny {
+			return lineResult{calls: trial, end: tinyOrExhausted(previous == 0 || finite(fPrevious))}
+		}
 		if trial >= budget {
 			return lineResult{calls: trial, end: searchOutOfBudget}
 		}
@@ -132,4 +138,15 @@ func interpolatedTrial(fx, slope, t, ft, previous, fPrevious elem) elem {
 		return high
 	}
 	return next
+}
+
+// tinyOrExhausted ends a search that has run below the step limit: x is
+// converged to the step limit when the last failure was a finite increase
+// of f, but a non-finite value says nothing about f near x, so the search
+// has simply failed.
+func tinyOrExhausted(lastFinite bool) searchEnd {
+	if lastFinite {
+		return searchTiny
+	}
+	return searchExhausted
 }

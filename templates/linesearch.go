@@ -7,6 +7,7 @@ const (
 	searchAccepted    searchEnd = iota // a step met the rule
 	searchExhausted                    // stepTrials trials met none
 	searchOutOfBudget                  // the evaluation cap came first
+	searchTiny                         // every step longer than tiny failed: x is converged to the step limit
 )
 
 // lineResult is what a line search reports to the kernel.
@@ -19,19 +20,22 @@ type lineResult struct {
 }
 
 // lineSearch looks along d from x, where f(x) = fx and the slope
-// ∇f(x)ᵀd < 0, starting with the trial step first, spending at most budget
-// objective calls. On acceptance xt holds x + t·d (and gt its gradient
-// when the result says so). It stands in for the rule the spec chose; gen
-// keeps only that one under this name.
-func lineSearch(recv *receiver, x *vec, fx elem, d *vec, slope, first elem, budget int, xt, gt *vec) lineResult {
+// ∇f(x)ᵀd < 0, starting with the trial step first and spending at most
+// budget objective calls. Steps t ≤ tiny are below the step limit: a
+// search that would have to try one ends with searchTiny instead, since no
+// step the step test would accept can decrease f (the step-tolerance stop
+// of Dennis & Schnabel 1983, §7.2, recalled from memory). On acceptance xt
+// holds x + t·d (and gt its gradient when the result says so). It stands
+// in for the rule the spec chose; gen keeps only that one under this name.
+func lineSearch(recv *receiver, x *vec, fx elem, d *vec, slope, first, tiny elem, budget int, xt, gt *vec) lineResult {
 	switch stepRule {
 	case ruleFixed:
-		return fixedStep(recv, x, fx, d, slope, first, budget, xt, gt)
+		return fixedStep(recv, x, fx, d, slope, first, tiny, budget, xt, gt)
 	case ruleDecrease:
-		return decreaseSearch(recv, x, fx, d, slope, first, budget, xt, gt)
+		return decreaseSearch(recv, x, fx, d, slope, first, tiny, budget, xt, gt)
 	case ruleWolfe, ruleStrongWolfe:
-		return wolfeSearch(recv, x, fx, d, slope, first, budget, xt, gt)
+		return wolfeSearch(recv, x, fx, d, slope, first, tiny, budget, xt, gt)
 	default:
-		return armijoSearch(recv, x, fx, d, slope, first, budget, xt, gt)
+		return armijoSearch(recv, x, fx, d, slope, first, tiny, budget, xt, gt)
 	}
 }

@@ -16,7 +16,8 @@ type outcome struct {
 //  2. stop after lim.Iterations accepted steps;
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
-//  4. search along d; stop when no trial is acceptable;
+//  4. search along d; stop when no trial is acceptable, or when only
+//     steps shorter than the step limit are left to try (converged);
 //  5. move, refresh the gradient, let the direction learn from the step;
 //  6. stop when the step is at most lim.Step·(‖x‖∞ + 1).
 //
@@ -77,13 +78,17 @@ func minimize(recv *receiver, x0 vec, lim limits) outcome {
 		if out.iterations > 0 {
 			first = dir.firstTrial(t, slope, now)
 		}
-		found := lineSearch(recv, &x, fx, &d, now, first, lim.Evaluations-out.evaluations, &xt, &gt)
+		tiny := lim.Step * (maxAbs(&x) + 1) / maxAbs(&d) // steps t ≤ tiny pass the step test
+		found := lineSearch(recv, &x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt)
 		out.evaluations += found.calls
 		switch found.end {
 		case searchOutOfBudget:
 			return out
 		case searchExhausted:
 			out.status = statusNoAcceptableStep
+			return out
+		case searchTiny:
+			out.status = statusStepTiny
 			return out
 		}
 		if !found.gradient {

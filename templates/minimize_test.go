@@ -202,3 +202,29 @@ func TestDifferencesMatchAnalytic(t *testing.T) {
 		}
 	}
 }
+
+// At an exact minimizer, forward differences still report a gradient of
+// size about h·f'' (Nocedal & Wright 2006, §8.1), above a tight gradient
+// limit, and no step can decrease f. Every rule must then stop converged
+// on the step limit, not fail: backtracking and bracketing run down to
+// steps the step test would accept.
+func TestExactMinimumWithNoisyGradientStopsOnStep(t *testing.T) {
+	for _, p := range everyPolicy() {
+		if p.source != sourceForward {
+			continue
+		}
+		t.Run(p.String(), func(t *testing.T) {
+			p.use(t)
+			lim := defaultLimits()
+			lim.Gradient = 1e-12
+			lim.Step = 1e-10
+			out := minimize(ellipse(), vec{3, -1}, lim)
+			if out.status != statusStepTiny {
+				t.Fatalf("status %d after %d iterations, want step tiny", out.status, out.iterations)
+			}
+			if out.x != (vec{3, -1}) || out.f != 0 {
+				t.Errorf("x = %v, f = %g; want the exact minimizer kept", out.x, out.f)
+			}
+		})
+	}
+}

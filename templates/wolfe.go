@@ -29,13 +29,28 @@ type linePoint struct {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func wolfeSearch(recv *receiver, x *vec, fx elem, d *vec, slope, first elem, budget int, xt, gt *vec) lineResult {
+func wolfeSearch(recv *receiver, x *vec, fx elem, d *vec, slope, first, tiny elem, budget int, xt, gt *vec) lineResult {
 	low := linePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high linePoint                                        // the other end of the bracket, once bracketed
+	var lowGradient vec                                       // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
 	t := first
 	calls := 0
 	for trial := 0; trial < stepTrials; trial++ {
+		if bracketed && abs(high.step-low.step) <= tiny {
+			// The bracket is below the step limit: take low when it
+			// decreased f; else x is converged to the step limit, unless
+			// f was not finite there.
+			if low.step == 0 {
+				return lineResult{calls: calls, end: tinyOrExhausted(finite(high.value))}
+			}
+			moveTo(xt, x, low.step, d)
+			*gt = lowGradient
+			return lineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: searchAccepted}
+		}
+		if !bracketed && t <= tiny {
+			return lineResult{calls: calls, end: searchTiny}
+		}
 		if calls >= budget {
 			return lineResult{calls: calls, end: searchOutOfBudget}
 		}
@@ -58,11 +73,11 @@ func wolfeSearch(recv *receiver, x *vec, fx elem, d *vec, slope, first elem, bud
 			case curvatureMet(current.slope, slope):
 				return lineResult{step: t, value: current.value, calls: calls, gradient: true, end: searchAccepted}
 			case bracketed && current.slope*(high.step-low.step) >= 0:
-				high, low = low, current // Alg. 3.6: the new low's slope points away from high
+				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
-				high, low, bracketed = low, current, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
 			default:
-				low = current
+				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {

@@ -118,7 +118,8 @@ const (
 //  2. stop after lim.Iterations accepted steps;
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
-//  4. search along d; stop when no trial is acceptable;
+//  4. search along d; stop when no trial is acceptable, or when only
+//     steps shorter than the step limit are left to try (converged);
 //  5. move, refresh the gradient, let the direction learn from the step;
 //  6. stop when the step is at most lim.Step·(‖x‖∞ + 1).
 //
@@ -179,13 +180,17 @@ func calibrateMinimize(x0 [2]float64, lim CalibrateLimits) calibrateOutcome {
 		if out.iterations > 0 {
 			first = dir.firstTrial(t, slope, now)
 		}
-		found := calibrateLineSearch(&x, fx, &d, now, first, lim.Evaluations-out.evaluations, &xt, &gt)
+		tiny := lim.Step * (calibrateMaxAbs(&x) + 1) / calibrateMaxAbs(&d) // steps t ≤ tiny pass the step test
+		found := calibrateLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt)
 		out.evaluations += found.calls
 		switch found.end {
 		case calibrateSearchOutOfBudget:
 			return out
 		case calibrateSearchExhausted:
 			out.status = CalibrateNoAcceptableStep
+			return out
+		case calibrateSearchTiny:
+			out.status = CalibrateStepTiny
 			return out
 		}
 		if !found.gradient {
@@ -362,10 +367,13 @@ func calibrateAbs(v float64) float64 {
 //     first partial derivatives, Pacific J. Math. 16(1):1–3, 1966.
 //   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
 //     Springer, 2006, §3.1 and §3.5.
-func calibrateLineSearch(x *[2]float64, fx float64, d *[2]float64, slope, first float64, budget int, xt, gt *[2]float64) calibrateLineResult {
+func calibrateLineSearch(x *[2]float64, fx float64, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64) calibrateLineResult {
 	t := first
 	var previous, fPrevious float64
 	for trial := 0; trial < calibrateStepTrials; trial++ {
+		if t <= tiny {
+			return calibrateLineResult{calls: trial, end: calibrateTinyOrExhausted(previous == 0 || calibrateFinite(fPrevious))}
+		}
 		if trial >= budget {
 			return calibrateLineResult{calls: trial, end: calibrateSearchOutOfBudget}
 		}
@@ -391,10 +399,22 @@ type calibrateLineResult struct {
 // calibrateSearchEnd tells how a line search ended.
 type calibrateSearchEnd uint8
 
+// calibrateTinyOrExhausted ends a search that has run below the step limit: x is
+// converged to the step limit when the last failure was a finite increase
+// of f, but a non-finite value says nothing about f near x, so the search
+// has simply failed.
+func calibrateTinyOrExhausted(lastFinite bool) calibrateSearchEnd {
+	if lastFinite {
+		return calibrateSearchTiny
+	}
+	return calibrateSearchExhausted
+}
+
 const (
 	calibrateSearchAccepted    calibrateSearchEnd = iota // a step met the rule
 	calibrateSearchExhausted                             // calibrateStepTrials trials met none
 	calibrateSearchOutOfBudget                           // the evaluation cap came first
+	calibrateSearchTiny                                  // every step longer than tiny failed: x is converged to the step limit
 )
 
 // calibrateMoveTo sets out = x + t·d.

@@ -119,7 +119,8 @@ const (
 //  2. stop after lim.Iterations accepted steps;
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
-//  4. search along d; stop when no trial is acceptable;
+//  4. search along d; stop when no trial is acceptable, or when only
+//     steps shorter than the step limit are left to try (converged);
 //  5. move, refresh the gradient, let the direction learn from the step;
 //  6. stop when the step is at most lim.Step·(‖x‖∞ + 1).
 //
@@ -180,13 +181,17 @@ func tuneGainMinimize(x0 [1]float64, lim TuneGainLimits) tuneGainOutcome {
 		if out.iterations > 0 {
 			first = dir.firstTrial(t, slope, now)
 		}
-		found := tuneGainLineSearch(&x, fx, &d, now, first, lim.Evaluations-out.evaluations, &xt, &gt)
+		tiny := lim.Step * (tuneGainMaxAbs(&x) + 1) / tuneGainMaxAbs(&d) // steps t ≤ tiny pass the step test
+		found := tuneGainLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt)
 		out.evaluations += found.calls
 		switch found.end {
 		case tuneGainSearchOutOfBudget:
 			return out
 		case tuneGainSearchExhausted:
 			out.status = TuneGainNoAcceptableStep
+			return out
+		case tuneGainSearchTiny:
+			out.status = TuneGainStepTiny
 			return out
 		}
 		if !found.gradient {
@@ -380,10 +385,13 @@ func tuneGainMaxAbs(x *[1]float64) float64 {
 //     first partial derivatives, Pacific J. Math. 16(1):1–3, 1966.
 //   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
 //     Springer, 2006, §3.1 and §3.5.
-func tuneGainLineSearch(x *[1]float64, fx float64, d *[1]float64, slope, first float64, budget int, xt, gt *[1]float64) tuneGainLineResult {
+func tuneGainLineSearch(x *[1]float64, fx float64, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64) tuneGainLineResult {
 	t := first
 	var previous, fPrevious float64
 	for trial := 0; trial < tuneGainStepTrials; trial++ {
+		if t <= tiny {
+			return tuneGainLineResult{calls: trial, end: tuneGainTinyOrExhausted(previous == 0 || tuneGainFinite(fPrevious))}
+		}
 		if trial >= budget {
 			return tuneGainLineResult{calls: trial, end: tuneGainSearchOutOfBudget}
 		}
@@ -409,10 +417,22 @@ type tuneGainLineResult struct {
 // tuneGainSearchEnd tells how a line search ended.
 type tuneGainSearchEnd uint8
 
+// tuneGainTinyOrExhausted ends a search that has run below the step limit: x is
+// converged to the step limit when the last failure was a finite increase
+// of f, but a non-finite value says nothing about f near x, so the search
+// has simply failed.
+func tuneGainTinyOrExhausted(lastFinite bool) tuneGainSearchEnd {
+	if lastFinite {
+		return tuneGainSearchTiny
+	}
+	return tuneGainSearchExhausted
+}
+
 const (
 	tuneGainSearchAccepted    tuneGainSearchEnd = iota // a step met the rule
 	tuneGainSearchExhausted                            // tuneGainStepTrials trials met none
 	tuneGainSearchOutOfBudget                          // the evaluation cap came first
+	tuneGainSearchTiny                                 // every step longer than tiny failed: x is converged to the step limit
 )
 
 // tuneGainMoveTo sets out = x + t·d.

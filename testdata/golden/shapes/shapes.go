@@ -1,0 +1,40 @@
+// Package shapes holds objectives of every shape for nadir's golden files.
+// The functions are small closed forms; the golden files pin the
+// generated text, not the numbers.
+package shapes
+
+// Parabola is (k − 3)², minimum at k = 3.
+func Parabola(k float64) float64 { return (k - 3) * (k - 3) }
+
+// Bowl is a shifted quadratic of three unknowns in float32.
+func Bowl(x []float32) float32 {
+	var s float32
+	for i, v := range x {
+		d := v - float32(i)
+		s += d * d
+	}
+	return s
+}
+
+// Valley carries the shift of its objective.
+type Valley struct{ Shift [2]float64 }
+
+// NewValley is the instance the generated tests use.
+func NewValley() *Valley { return &Valley{Shift: [2]float64{1, -2}} }
+
+// Depth is a shifted, scaled quadratic.
+func (v *Valley) Depth(x [2]float64) float64 {
+	a, b := x[0]-v.Shift[0], x[1]-v.Shift[1]
+	return a*a + 4*b*b
+}
+
+// DepthGradient is Depth's gradient.
+func (v *Valley) DepthGradient(x [2]float64) [2]float64 {
+	return [2]float64{2 * (x[0] - v.Shift[0]), 8 * (x[1] - v.Shift[1])}
+}
+
+// Plate is f = x² + 2y² in float32, taken by pointer.
+func Plate(x *[2]float32) float32 { return x[0]*x[0] + 2*x[1]*x[1] }
+
+// PlateGradient is Plate's gradient.
+func PlateGradient(x, g *[2]float32) { g[0], g[1] = 2*x[0], 4*x[1] }
