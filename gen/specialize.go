@@ -235,8 +235,9 @@ func specialize(c kernelChoice) (*specializedKernels, error) {
 	var buf bytes.Buffer
 	for _, u := range reached {
 		for _, d := range u.decls {
+			own := declName(d)
 			copyDecl := rw.rewrite(d)
-			rw.renameComments(copyDecl, u.file)
+			rw.renameComments(copyDecl, own, u.file)
 			if err := printer.Fprint(&buf, ks.fset, &printer.CommentedNode{Node: copyDecl, Comments: commentsWithin(u.file, d)}); err != nil {
 				return nil, err
 			}
@@ -495,12 +496,11 @@ var wordPattern = regexp.MustCompile(`[A-Za-z_][A-Za-z0-9_]*`)
 // thing. Plain words ("direction", "finite") are left alone unless they
 // open the declaration's doc comment as its own name; camelCase words are
 // always names.
-func (rw *rewriter) renameComments(d ast.Decl, f *ast.File) {
+func (rw *rewriter) renameComments(d ast.Decl, own string, f *ast.File) {
 	names := map[string]string{}
 	for o, n := range rw.newName {
 		names[o.Name()] = n
 	}
-	own := declName(d)
 	for _, cg := range commentsWithin(f, d) {
 		for i, c := range cg.List {
 			first := i == 0

@@ -7,10 +7,11 @@ package templates
 // γ = sᵀy / yᵀy of the newest pair (eq. 7.20). Pairs whose curvature is not
 // safely positive are skipped.
 //
-// Memory: a few pairs suffice; Nocedal & Wright report that values between
-// 3 and 20 usually work (§7.2) and Liu & Nocedal found little gain beyond
-// small values on their test set (recalled from memory); nadir defaults
-// to 5 to keep the stack small on devices.
+// Memory (the spec's memory key, lbfgsMemory here): a few pairs suffice;
+// Nocedal & Wright report that values between 3 and 20 usually work (§7.2)
+// and Liu & Nocedal found little gain beyond small values on their test
+// set (recalled from memory). nadir's default is 5, to keep the stack
+// small on devices.
 //
 // References:
 //   - D. C. Liu and J. Nocedal, On the limited memory BFGS method for large

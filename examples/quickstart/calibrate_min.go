@@ -112,7 +112,7 @@ const (
 	calibrateUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
 )
 
-// minimize runs the descent loop from x0 within lim:
+// calibrateMinimize runs the descent loop from x0 within lim:
 //
 //  1. stop when the largest gradient component is at most lim.Gradient;
 //  2. stop after lim.Iterations accepted steps;
@@ -215,7 +215,7 @@ func calibrateMinimize(x0 [2]float64, lim CalibrateLimits) calibrateOutcome {
 	}
 }
 
-// outcome is the kernel's report; the generated entry point copies it into
+// calibrateOutcome is the kernel's report; the generated entry point copies it into
 // the spec's result type.
 type calibrateOutcome struct {
 	x           [2]float64
@@ -225,7 +225,7 @@ type calibrateOutcome struct {
 	status      CalibrateStatus
 }
 
-// finite reports whether v is neither NaN nor ±Inf: v-v is 0 for every
+// calibrateFinite reports whether v is neither NaN nor ±Inf: v-v is 0 for every
 // finite v and NaN otherwise, which needs no package math.
 func calibrateFinite(v float64) bool {
 	return v-v == 0
@@ -315,7 +315,7 @@ func (s *calibrateDirection) firstTrial(t, slope, now float64) float64 {
 	return 1
 }
 
-// dot returns aᵀb.
+// calibrateDot returns aᵀb.
 func calibrateDot(a, b *[2]float64) float64 {
 	var s float64
 	for i := range a {
@@ -346,7 +346,7 @@ func calibrateMaxAbs(x *[2]float64) float64 {
 	return m
 }
 
-// abs returns |v|.
+// calibrateAbs returns |v|.
 func calibrateAbs(v float64) float64 {
 	if v < 0 {
 		return -v
@@ -429,7 +429,7 @@ func calibrateBacktrackTrial(fx, slope, t, ft, previous, fPrevious float64) floa
 	return t * calibrateStepShrink
 }
 
-// difference sets out = a − b.
+// calibrateDifference sets out = a − b.
 func calibrateDifference(out, a, b *[2]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]

@@ -114,7 +114,7 @@ const (
 	minBowlForwardScale   = 0.000244140625 // √u, forward-difference step scale (Nocedal & Wright 2006, §8.1)
 )
 
-// minimize runs the descent loop from x0 within lim:
+// minBowlMinimize runs the descent loop from x0 within lim:
 //
 //  1. stop when the largest gradient component is at most lim.Gradient;
 //  2. stop after lim.Iterations accepted steps;
@@ -217,7 +217,7 @@ func minBowlMinimize(x0 [3]float32, lim MinBowlLimits) minBowlOutcome {
 	}
 }
 
-// outcome is the kernel's report; the generated entry point copies it into
+// minBowlOutcome is the kernel's report; the generated entry point copies it into
 // the spec's result type.
 type minBowlOutcome struct {
 	x           [3]float32
@@ -227,7 +227,7 @@ type minBowlOutcome struct {
 	status      MinBowlStatus
 }
 
-// finite reports whether v is neither NaN nor ±Inf: v-v is 0 for every
+// minBowlFinite reports whether v is neither NaN nor ±Inf: v-v is 0 for every
 // finite v and NaN otherwise, which needs no package math.
 func minBowlFinite(v float32) bool {
 	return v-v == 0
@@ -261,7 +261,7 @@ func minBowlDerivative(x *[3]float32, fx float32, g *[3]float32) {
 	}
 }
 
-// abs returns |v|.
+// minBowlAbs returns |v|.
 func minBowlAbs(v float32) float32 {
 	if v < 0 {
 		return -v
@@ -320,7 +320,7 @@ func (s *minBowlDirection) firstTrial(t, slope, now float32) float32 {
 	return minBowlScaledTrial(t, slope, now)
 }
 
-// dot returns aᵀb.
+// minBowlDot returns aᵀb.
 func minBowlDot(a, b *[3]float32) float32 {
 	var s float32
 	for i := range a {
@@ -549,7 +549,7 @@ func minBowlExpandTrial(previous, current *minBowlLinePoint) float32 {
 	return minBowlClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// difference sets out = a − b.
+// minBowlDifference sets out = a − b.
 func minBowlDifference(out, a, b *[3]float32) {
 	for i := range a {
 		out[i] = a[i] - b[i]

@@ -113,7 +113,7 @@ const (
 	minParabolaCentralScale   = 4.806217383937352e-06  // ∛u, central-difference step scale (Nocedal & Wright 2006, §8.1)
 )
 
-// minimize runs the descent loop from x0 within lim:
+// minParabolaMinimize runs the descent loop from x0 within lim:
 //
 //  1. stop when the largest gradient component is at most lim.Gradient;
 //  2. stop after lim.Iterations accepted steps;
@@ -216,7 +216,7 @@ func minParabolaMinimize(x0 [1]float64, lim MinParabolaLimits) minParabolaOutcom
 	}
 }
 
-// outcome is the kernel's report; the generated entry point copies it into
+// minParabolaOutcome is the kernel's report; the generated entry point copies it into
 // the spec's result type.
 type minParabolaOutcome struct {
 	x           [1]float64
@@ -226,7 +226,7 @@ type minParabolaOutcome struct {
 	status      MinParabolaStatus
 }
 
-// finite reports whether v is neither NaN nor ±Inf: v-v is 0 for every
+// minParabolaFinite reports whether v is neither NaN nor ±Inf: v-v is 0 for every
 // finite v and NaN otherwise, which needs no package math.
 func minParabolaFinite(v float64) bool {
 	return v-v == 0
@@ -264,7 +264,7 @@ func minParabolaDerivative(x *[1]float64, fx float64, g *[1]float64) {
 	}
 }
 
-// abs returns |v|.
+// minParabolaAbs returns |v|.
 func minParabolaAbs(v float64) float64 {
 	if v < 0 {
 		return -v
@@ -341,7 +341,7 @@ func (s *minParabolaDirection) firstTrial(t, slope, now float64) float64 {
 	return 1
 }
 
-// dot returns aᵀb.
+// minParabolaDot returns aᵀb.
 func minParabolaDot(a, b *[1]float64) float64 {
 	var s float64
 	for i := range a {
@@ -447,7 +447,7 @@ func minParabolaBacktrackTrial(fx, slope, t, ft, previous, fPrevious float64) fl
 	return t * minParabolaStepShrink
 }
 
-// difference sets out = a − b.
+// minParabolaDifference sets out = a − b.
 func minParabolaDifference(out, a, b *[1]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]

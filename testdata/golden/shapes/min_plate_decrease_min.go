@@ -113,7 +113,7 @@ const (
 	minPlateDecreaseCentralScale   = 0.00390625 // ∛u, central-difference step scale (Nocedal & Wright 2006, §8.1)
 )
 
-// minimize runs the descent loop from x0 within lim:
+// minPlateDecreaseMinimize runs the descent loop from x0 within lim:
 //
 //  1. stop when the largest gradient component is at most lim.Gradient;
 //  2. stop after lim.Iterations accepted steps;
@@ -216,7 +216,7 @@ func minPlateDecreaseMinimize(x0 [2]float32, lim MinPlateDecreaseLimits) minPlat
 	}
 }
 
-// outcome is the kernel's report; the generated entry point copies it into
+// minPlateDecreaseOutcome is the kernel's report; the generated entry point copies it into
 // the spec's result type.
 type minPlateDecreaseOutcome struct {
 	x           [2]float32
@@ -226,7 +226,7 @@ type minPlateDecreaseOutcome struct {
 	status      MinPlateDecreaseStatus
 }
 
-// finite reports whether v is neither NaN nor ±Inf: v-v is 0 for every
+// minPlateDecreaseFinite reports whether v is neither NaN nor ±Inf: v-v is 0 for every
 // finite v and NaN otherwise, which needs no package math.
 func minPlateDecreaseFinite(v float32) bool {
 	return v-v == 0
@@ -264,7 +264,7 @@ func minPlateDecreaseDerivative(x *[2]float32, fx float32, g *[2]float32) {
 	}
 }
 
-// abs returns |v|.
+// minPlateDecreaseAbs returns |v|.
 func minPlateDecreaseAbs(v float32) float32 {
 	if v < 0 {
 		return -v
@@ -289,7 +289,7 @@ func (s *minPlateDecreaseDirection) firstTrial(t, slope, now float32) float32 {
 	return minPlateDecreaseScaledTrial(t, slope, now)
 }
 
-// negate sets out = −x.
+// minPlateDecreaseNegate sets out = −x.
 func minPlateDecreaseNegate(out, x *[2]float32) {
 	for i := range x {
 		out[i] = -x[i]
@@ -319,7 +319,7 @@ func minPlateDecreaseMaxAbs(x *[2]float32) float32 {
 	return m
 }
 
-// dot returns aᵀb.
+// minPlateDecreaseDot returns aᵀb.
 func minPlateDecreaseDot(a, b *[2]float32) float32 {
 	var s float32
 	for i := range a {
@@ -444,7 +444,7 @@ func minPlateDecreaseSquareRoot(v float32) float32 {
 	return float32(math.Sqrt(float64(v)))
 }
 
-// difference sets out = a − b.
+// minPlateDecreaseDifference sets out = a − b.
 func minPlateDecreaseDifference(out, a, b *[2]float32) {
 	for i := range a {
 		out[i] = a[i] - b[i]

@@ -115,7 +115,7 @@ const (
 	minValleyUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
 )
 
-// minimize runs the descent loop from x0 within lim:
+// minValleyMinimize runs the descent loop from x0 within lim:
 //
 //  1. stop when the largest gradient component is at most lim.Gradient;
 //  2. stop after lim.Iterations accepted steps;
@@ -218,7 +218,7 @@ func minValleyMinimize(recv *Valley, x0 [2]float64, lim MinValleyLimits) minVall
 	}
 }
 
-// outcome is the kernel's report; the generated entry point copies it into
+// minValleyOutcome is the kernel's report; the generated entry point copies it into
 // the spec's result type.
 type minValleyOutcome struct {
 	x           [2]float64
@@ -228,7 +228,7 @@ type minValleyOutcome struct {
 	status      MinValleyStatus
 }
 
-// finite reports whether v is neither NaN nor ±Inf: v-v is 0 for every
+// minValleyFinite reports whether v is neither NaN nor ±Inf: v-v is 0 for every
 // finite v and NaN otherwise, which needs no package math.
 func minValleyFinite(v float64) bool {
 	return v-v == 0
@@ -256,10 +256,11 @@ func minValleyDerivative(recv *Valley, x *[2]float64, fx float64, g *[2]float64)
 // γ = sᵀy / yᵀy of the newest pair (eq. 7.20). Pairs whose curvature is not
 // safely positive are skipped.
 //
-// Memory: a few pairs suffice; Nocedal & Wright report that values between
-// 3 and 20 usually work (§7.2) and Liu & Nocedal found little gain beyond
-// small values on their test set (recalled from memory); nadir defaults
-// to 5 to keep the stack small on devices.
+// Memory (the spec's memory key, minValleyLbfgsMemory here): a few pairs suffice;
+// Nocedal & Wright report that values between 3 and 20 usually work (§7.2)
+// and Liu & Nocedal found little gain beyond small values on their test
+// set (recalled from memory). nadir's default is 5, to keep the stack
+// small on devices.
 //
 // References:
 //   - D. C. Liu and J. Nocedal, On the limited memory BFGS method for large
@@ -337,7 +338,7 @@ func (s *minValleyDirection) firstTrial(t, slope, now float64) float64 {
 	return 1
 }
 
-// dot returns aᵀb.
+// minValleyDot returns aᵀb.
 func minValleyDot(a, b *[2]float64) float64 {
 	var s float64
 	for i := range a {
@@ -346,7 +347,7 @@ func minValleyDot(a, b *[2]float64) float64 {
 	return s
 }
 
-// negate sets out = −x.
+// minValleyNegate sets out = −x.
 func minValleyNegate(out, x *[2]float64) {
 	for i := range x {
 		out[i] = -x[i]
@@ -375,7 +376,7 @@ func minValleyMaxAbs(x *[2]float64) float64 {
 	return m
 }
 
-// abs returns |v|.
+// minValleyAbs returns |v|.
 func minValleyAbs(v float64) float64 {
 	if v < 0 {
 		return -v
@@ -580,7 +581,7 @@ func minValleyExpandTrial(previous, current *minValleyLinePoint) float64 {
 	return minValleyClampBetween(next, 2*current.step, 8*current.step)
 }
 
-// difference sets out = a − b.
+// minValleyDifference sets out = a − b.
 func minValleyDifference(out, a, b *[2]float64) {
 	for i := range a {
 		out[i] = a[i] - b[i]

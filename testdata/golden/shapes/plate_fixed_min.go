@@ -108,7 +108,7 @@ const (
 	minPlateDerivativeCost = 0   // objective calls per gradient
 )
 
-// minimize runs the descent loop from x0 within lim:
+// minPlateMinimize runs the descent loop from x0 within lim:
 //
 //  1. stop when the largest gradient component is at most lim.Gradient;
 //  2. stop after lim.Iterations accepted steps;
@@ -211,7 +211,7 @@ func minPlateMinimize(x0 [2]float32, lim MinPlateLimits) minPlateOutcome {
 	}
 }
 
-// outcome is the kernel's report; the generated entry point copies it into
+// minPlateOutcome is the kernel's report; the generated entry point copies it into
 // the spec's result type.
 type minPlateOutcome struct {
 	x           [2]float32
@@ -221,7 +221,7 @@ type minPlateOutcome struct {
 	status      MinPlateStatus
 }
 
-// finite reports whether v is neither NaN nor ±Inf: v-v is 0 for every
+// minPlateFinite reports whether v is neither NaN nor ±Inf: v-v is 0 for every
 // finite v and NaN otherwise, which needs no package math.
 func minPlateFinite(v float32) bool {
 	return v-v == 0
@@ -259,7 +259,7 @@ func (s *minPlateDirection) firstTrial(t, slope, now float32) float32 {
 	return minPlateScaledTrial(t, slope, now)
 }
 
-// negate sets out = −x.
+// minPlateNegate sets out = −x.
 func minPlateNegate(out, x *[2]float32) {
 	for i := range x {
 		out[i] = -x[i]
@@ -289,7 +289,7 @@ func minPlateMaxAbs(x *[2]float32) float32 {
 	return m
 }
 
-// abs returns |v|.
+// minPlateAbs returns |v|.
 func minPlateAbs(v float32) float32 {
 	if v < 0 {
 		return -v
@@ -297,7 +297,7 @@ func minPlateAbs(v float32) float32 {
 	return v
 }
 
-// dot returns aᵀb.
+// minPlateDot returns aᵀb.
 func minPlateDot(a, b *[2]float32) float32 {
 	var s float32
 	for i := range a {
@@ -349,7 +349,7 @@ func minPlateMoveTo(out, x *[2]float32, t float32, d *[2]float32) {
 	}
 }
 
-// difference sets out = a − b.
+// minPlateDifference sets out = a − b.
 func minPlateDifference(out, a, b *[2]float32) {
 	for i := range a {
 		out[i] = a[i] - b[i]
