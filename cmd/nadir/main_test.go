@@ -1,0 +1,425 @@
+package main
+
+import (
+	"bytes"
+	"io/fs"
+	"os"
+	"path/filepath"
+	"regexp"
+	"runtime"
+	"sort"
+	"strings"
+	"testing"
+
+	"github.com/nadir-opt/nadir/rules"
+)
+
+// The quickstart example's outputs, generated from quickstart.toml.
+var quickstartOutputs = []string{
+	"calibrate_min.go",
+	"calibrate_min_test.go",
+	"tune_gain_min.go",
+	"tune_gain_min_test.go",
+}
+
+var (
+	headerRE  = regexp.MustCompile(`^// Code generated .* DO NOT EDIT\.$`)
+	problemRE = regexp.MustCompile(`^[^:\s]+:\d+:\d+: \S.*$`)
+)
+
+// quickstartModule copies the quickstart example's hand-written files into
+// root/qs with its own go.mod (module qs), changes into that directory and
+// returns the temporary root.
+func quickstartModule(t *testing.T) string {
+	t.Helper()
+	_, self, _, _ := runtime.Caller(0)
+	example := filepath.Join(filepath.Dir(self), "..", "..", "examples", "quickstart")
+	root := t.TempDir()
+	dir := filepath.Join(root, "qs")
+	if err := os.Mkdir(dir, 0o755); err != nil {
+		t.Fatal(err)
+	}
+	for _, name := range []string{"quickstart.go", "quickstart.toml"} {
+		data, err := os.ReadFile(filepath.Join(example, name))
+		if err != nil {
+			t.Fatal(err)
+		}
+		writeFile(t, filepath.Join(dir, name), string(data))
+	}
+	writeFile(t, filepath.Join(dir, "go.mod"), "module qs\n\ngo 1.24\n")
+	t.Chdir(dir)
+	return root
+}
+
+func writeFile(t *testing.T, path, data string) {
+	t.Helper()
+	if err := os.MkdirAll(filepath.Dir(path), 0o755); err != nil {
+		t.Fatal(err)
+	}
+	if err := os.WriteFile(path, []byte(data), 0o644); err != nil {
+		t.Fatal(err)
+	}
+}
+
+// snapshot maps every file below root, hidden ones included, to its bytes.
+func snapshot(t *testing.T, root string) map[string]string {
+	t.Helper()
+	files := map[string]string{}
+	err := filepath.WalkDir(root, func(path string, d fs.DirEntry, err error) error {
+		if err != nil || d.IsDir() {
+			return err
+		}
+		data, err := os.ReadFile(path)
+		rel, _ := filepath.Rel(root, path)
+		files[filepath.ToSlash(rel)] = string(data)
+		return err
+	})
+	if err != nil {
+		t.Fatal(err)
+	}
+	return files
+}
+
+// sameFiles reports how two snapshots differ, or "" when they are equal.
+func sameFiles(before, after map[string]string) string {
+	var diffs []string
+	for name, data := range before {
+		got, ok := after[name]
+		switch {
+		case !ok:
+			diffs = append(diffs, name+" removed")
+		case got != data:
+			diffs = append(diffs, name+" changed")
+		}
+	}
+	for name := range after {
+		if _, ok := before[name]; !ok {
+			diffs = append(diffs, name+" added")
+		}
+	}
+	sort.Strings(diffs)
+	return strings.Join(diffs, ", ")
+}
+
+// nadir runs the CLI in-process.
+func nadir(args ...string) (code int, stdout, stderr string) {
+	var out, errb bytes.Buffer
+	code = run(args, &out, &errb)
+	return code, out.String(), errb.String()
+}
+
+// problemLines checks that stderr is one path:line:col: message per line.
+func problemLines(t *testing.T, stderr string) []string {
+	t.Helper()
+	lines := strings.Split(strings.TrimRight(stderr, "\n"), "\n")
+	for _, l := range lines {
+		if !problemRE.MatchString(l) {
+			t.Errorf("stderr line %q is not path:line:col: message", l)
+		}
+	}
+	return lines
+}
+
+func TestGenWritesBothFilesAndIsStable(t *testing.T) {
+	root := quickstartModule(t)
+	code, _, stderr := nadir("gen", "quickstart.toml")
+	if code != 0 {
+		t.Fatalf("gen exited %d:\n%s", code, stderr)
+	}
+	if stderr != "" {
+		t.Errorf("gen succeeded but wrote to stderr:\n%s", stderr)
+	}
+	first := snapshot(t, root)
+	for _, name := range quickstartOutputs {
+		data, ok := first["qs/"+name]
+		if !ok {
+			t.Errorf("gen did not write %s", name)
+			continue
+		}
+		head, _, _ := strings.Cut(data, "\n")
+		if !headerRE.MatchString(head) {
+			t.Errorf("%s starts with %q, want nadir's header", name, head)
+		}
+		if strings.Contains(data, root) {
+			t.Errorf("%s contains the absolute path %s", name, root)
+		}
+	}
+	if len(first) != 3+len(quickstartOutputs) {
+		t.Errorf("files after gen: %v", keys(first))
+	}
+
+	// A second run rewrites the same bytes and leaves no temporary file.
+	if code, _, stderr := nadir("gen", "quickstart.toml"); code != 0 {
+		t.Fatalf("second gen exited %d:\n%s", code, stderr)
+	}
+	if d := sameFiles(first, snapshot(t, root)); d != "" {
+		t.Errorf("second gen changed files: %s", d)
+	}
+
+	// So does a run from another working directory.
+	t.Chdir(root)
+	if code, _, stderr := nadir("gen", filepath.Join("qs", "quickstart.toml")); code != 0 {
+		t.Fatalf("gen from the parent directory exited %d:\n%s", code, stderr)
+	}
+	if d := sameFiles(first, snapshot(t, root)); d != "" {
+		t.Errorf("gen from the parent directory changed files: %s", d)
+	}
+}
+
+func TestCheck(t *testing.T) {
+	root := quickstartModule(t)
+	if code, _, stderr := nadir("gen", "quickstart.toml"); code != 0 {
+		t.Fatalf("gen exited %d:\n%s", code, stderr)
+	}
+	fresh := snapshot(t, root)
+
+	code, _, stderr := nadir("check", "quickstart.toml")
+	if code != 0 {
+		t.Fatalf("check on fresh files exited %d:\n%s", code, stderr)
+	}
+	if d := sameFiles(fresh, snapshot(t, root)); d != "" {
+		t.Errorf("check changed files: %s", d)
+	}
+
+	// One file deleted, one edited: exit 1, each named, nothing written.
+	if err := os.Remove("tune_gain_min_test.go"); err != nil {
+		t.Fatal(err)
+	}
+	edited := fresh["qs/calibrate_min.go"] + "\n// edited by hand\n"
+	writeFile(t, "calibrate_min.go", edited)
+	before := snapshot(t, root)
+	code, _, stderr = nadir("check", "quickstart.toml")
+	if code != 1 {
+		t.Fatalf("check with a missing and an edited file exited %d, want 1:\n%s", code, stderr)
+	}
+	for _, want := range []string{"tune_gain_min_test.go: missing", "calibrate_min.go: stale"} {
+		if !containsLine(stderr, want) {
+			t.Errorf("check's stderr does not name %q:\n%s", want, stderr)
+		}
+	}
+	for _, fine := range []string{"tune_gain_min.go", "calibrate_min_test.go"} {
+		if strings.Contains(stderr, fine+":") {
+			t.Errorf("check names the fresh file %s:\n%s", fine, stderr)
+		}
+	}
+	if d := sameFiles(before, snapshot(t, root)); d != "" {
+		t.Errorf("check changed files: %s", d)
+	}
+
+	// Only the edit left: still 1.
+	if code, _, stderr := nadir("gen", "quickstart.toml"); code != 0 {
+		t.Fatalf("gen exited %d:\n%s", code, stderr)
+	}
+	writeFile(t, "tune_gain_min.go", fresh["qs/tune_gain_min.go"]+" ")
+	code, _, stderr = nadir("check", "quickstart.toml")
+	if code != 1 || !containsLine(stderr, "tune_gain_min.go: stale") {
+		t.Errorf("check with one edited file exited %d, want 1 naming it:\n%s", code, stderr)
+	}
+
+	// BUG(spec): with a hand-written file (no header) at an output path,
+	// check exits 1 ("tune_gain_min.go: stale", "run nadir gen to
+	// regenerate") although gen refuses that file with exit 2; check should
+	// report the same refusal and exit 2. Not asserted here.
+}
+
+func TestBadSpecChangesNothing(t *testing.T) {
+	root := quickstartModule(t)
+	writeFile(t, "bad.toml", `[[minimizer]]
+name = "tune"
+objective = "GainCost"
+start = 1.0
+
+[minimizer.step]
+shrink = 1.5
+bogus = 1
+`)
+	before := snapshot(t, root)
+	for _, verb := range []string{"gen", "check"} {
+		code, _, stderr := nadir(verb, "bad.toml")
+		if code != 2 {
+			t.Fatalf("%s on a bad spec exited %d, want 2:\n%s", verb, code, stderr)
+		}
+		got := problemLines(t, stderr)
+		want := []string{
+			`bad.toml:2:8: name "tune" is not an exported Go identifier`,
+			`bad.toml:7:10: step.shrink must be in (0, 1), got 1.5`,
+			`bad.toml:8:1: unknown key "minimizer.step.bogus"`,
+		}
+		if strings.Join(got, "\n") != strings.Join(want, "\n") {
+			t.Errorf("%s: stderr\n%s\nwant\n%s", verb, strings.Join(got, "\n"), strings.Join(want, "\n"))
+		}
+		if d := sameFiles(before, snapshot(t, root)); d != "" {
+			t.Errorf("%s on a bad spec changed files: %s", verb, d)
+		}
+	}
+
+	// An objective problem is reported at the Go declaration.
+	writeFile(t, "bad.toml", `[[minimizer]]
+name = "Tune"
+objective = "rawReadings"
+start = 1.0
+`)
+	before = snapshot(t, root)
+	code, _, stderr := nadir("gen", "bad.toml")
+	if code != 2 {
+		t.Fatalf("gen with a non-function objective exited %d, want 2:\n%s", code, stderr)
+	}
+	if got := problemLines(t, stderr); len(got) != 1 || got[0] != "quickstart.go:18:2: objective rawReadings is not a function" {
+		t.Errorf("stderr = %q", got)
+	}
+	if d := sameFiles(before, snapshot(t, root)); d != "" {
+		t.Errorf("gen with a bad objective changed files: %s", d)
+	}
+
+	// A spec that does not exist.
+	code, _, stderr = nadir("gen", "missing.toml")
+	if code != 2 || !strings.HasPrefix(stderr, "missing.toml:1:1: ") {
+		t.Errorf("gen missing.toml exited %d:\n%s", code, stderr)
+	}
+}
+
+func TestGenRefusesHandWrittenFile(t *testing.T) {
+	root := quickstartModule(t)
+	// The last output refused: none of the earlier ones may be written.
+	hand := "package quickstart\n\n// Written by hand.\n"
+	writeFile(t, "tune_gain_min_test.go", hand)
+	before := snapshot(t, root)
+	code, _, stderr := nadir("gen", "quickstart.toml")
+	if code != 2 {
+		t.Fatalf("gen over a hand-written file exited %d, want 2:\n%s", code, stderr)
+	}
+	got := problemLines(t, stderr)
+	if len(got) != 1 || !strings.HasPrefix(got[0], "tune_gain_min_test.go:1:1: refusing to overwrite") {
+		t.Errorf("stderr = %q, want one refusal naming tune_gain_min_test.go", got)
+	}
+	if d := sameFiles(before, snapshot(t, root)); d != "" {
+		t.Errorf("refused gen changed files: %s", d)
+	}
+}
+
+func TestGenTwoSpecsSecondBad(t *testing.T) {
+	root := quickstartModule(t)
+	// A second package whose spec names a missing objective.
+	writeFile(t, filepath.Join("other", "other.go"), "package other\n\nfunc Loss(x float64) float64 { return x * x }\n")
+	writeFile(t, filepath.Join("other", "other.toml"), `[[minimizer]]
+name = "Other"
+objective = "Lost"
+start = 1.0
+`)
+	// A spec-level error in the same package.
+	writeFile(t, "second.toml", `[[minimizer]]
+name = "Second"
+objective = "GainCost"
+`)
+	before := snapshot(t, root)
+	code, _, stderr := nadir("gen", "quickstart.toml", filepath.Join("other", "other.toml"))
+	if code != 2 {
+		t.Fatalf("gen with a bad second spec exited %d, want 2:\n%s", code, stderr)
+	}
+	if got := problemLines(t, stderr); len(got) != 1 || got[0] != filepath.Join("other", "other.toml")+":3:13: objective Lost: no such function in package other" {
+		t.Errorf("stderr = %q", got)
+	}
+	if d := sameFiles(before, snapshot(t, root)); d != "" {
+		t.Errorf("gen wrote files for the good spec: %s", d)
+	}
+
+	code, _, stderr = nadir("gen", "quickstart.toml", "second.toml")
+	if code != 2 {
+		t.Fatalf("gen with a bad second spec exited %d, want 2:\n%s", code, stderr)
+	}
+	if got := problemLines(t, stderr); len(got) != 1 || got[0] != "second.toml:1:3: start is required: a typical starting point" {
+		t.Errorf("stderr = %q", got)
+	}
+	if d := sameFiles(before, snapshot(t, root)); d != "" {
+		t.Errorf("gen wrote files for the good spec: %s", d)
+	}
+
+	// A good second spec whose output is a hand-written file: refused
+	// before anything is written for the first.
+	writeFile(t, "second.toml", `[[minimizer]]
+name = "Second"
+objective = "GainCost"
+start = 1.0
+output = "handwritten.go"
+`)
+	writeFile(t, "handwritten.go", "package quickstart\n")
+	before = snapshot(t, root)
+	code, _, stderr = nadir("gen", "quickstart.toml", "second.toml")
+	if code != 2 {
+		t.Fatalf("gen over a hand-written file exited %d, want 2:\n%s", code, stderr)
+	}
+	if got := problemLines(t, stderr); len(got) != 1 || !strings.HasPrefix(got[0], "handwritten.go:1:1: refusing to overwrite") {
+		t.Errorf("stderr = %q", got)
+	}
+	if d := sameFiles(before, snapshot(t, root)); d != "" {
+		t.Errorf("refused gen changed files: %s", d)
+	}
+}
+
+func TestUsageErrors(t *testing.T) {
+	for _, args := range [][]string{
+		nil,
+		{"frobnicate"},
+		{"gen"},
+		{"check"},
+		{"rules", "extra"},
+		// BUG(spec): an unknown flag (`nadir --bogus`, `nadir gen x.toml
+		// --bogus`) exits 2 but prints nothing at all: pflag with
+		// ContinueOnError neither prints the error nor calls Usage. Not
+		// listed here until fixed.
+	} {
+		code, stdout, stderr := nadir(args...)
+		if code != 2 {
+			t.Errorf("nadir %q exited %d, want 2", args, code)
+		}
+		if !strings.Contains(stderr, "usage:") || !strings.Contains(stderr, "nadir gen SPEC...") {
+			t.Errorf("nadir %q: stderr lacks the usage:\n%s", args, stderr)
+		}
+		if stdout != "" {
+			t.Errorf("nadir %q wrote to stdout:\n%s", args, stdout)
+		}
+	}
+}
+
+func TestVersionAndRules(t *testing.T) {
+	code, stdout, stderr := nadir("version")
+	if code != 0 || !strings.HasPrefix(stdout, "nadir ") || stderr != "" {
+		t.Errorf("version: exit %d, stdout %q, stderr %q", code, stdout, stderr)
+	}
+
+	code, stdout, stderr = nadir("rules")
+	if code != 0 || stderr != "" {
+		t.Fatalf("rules: exit %d, stderr %q", code, stderr)
+	}
+	names := []string{
+		"steepest", "bfgs", "lbfgs", "cg",
+		"fixed", "decrease", "armijo", "wolfe", "strong-wolfe",
+		"analytic", "forward", "central",
+	}
+	for _, list := range [][]rules.Entry{rules.Directions(), rules.StepRules(), rules.Derivatives()} {
+		names = append(names, rules.Names(list)...)
+	}
+	for _, name := range names {
+		if !regexp.MustCompile(`(?m)^\s+` + regexp.QuoteMeta(name) + `\s`).MatchString(stdout) {
+			t.Errorf("rules output has no entry for %q", name)
+		}
+	}
+}
+
+func containsLine(text, line string) bool {
+	for _, l := range strings.Split(text, "\n") {
+		if l == line {
+			return true
+		}
+	}
+	return false
+}
+
+func keys(m map[string]string) []string {
+	var ks []string
+	for k := range m {
+		ks = append(ks, k)
+	}
+	sort.Strings(ks)
+	return ks
+}

@@ -1,0 +1,431 @@
+package gen
+
+import (
+	"errors"
+	"fmt"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+)
+
+// misfitSource is the package the objective errors resolve against. Tests
+// pin positions in it by line, so keep the layout (one declaration every
+// other line) when adding to it.
+const misfitSource = `package bad
+
+func TwoParams(x, y float64) float64 { return x + y }
+
+func ReturnsInt(x float64) int { return 0 }
+
+func Mixed(x [2]float32) float64 { return 0 }
+
+func SliceObj(x []float64) float64 { return 0 }
+
+func ArrayObj(x [2]float64) float64 { return 0 }
+
+func ScalarObj(x float64) float64 { return x * x }
+
+var NotFunc = 3.0
+
+type Model struct{}
+
+func (m Model) Loss(x [2]float64) float64 { return 0 }
+
+func (m *Model) Grad(x, g *[2]float64) {}
+
+func (m Model) BadGrad(x [2]float64) float64 { return 0 }
+
+type Other struct{}
+
+func (o Other) Grad(x, g *[2]float64) {}
+
+func NewOther() Other { return Other{} }
+
+func PtrObj(x *[2]float64) float64 { return 0 }
+
+func WrongDimGrad(x, g *[3]float64) {}
+
+func PlainGrad(x, g *[2]float64) {}
+
+var DefaultModel = Model{}
+
+var WrongInstance = 1.0
+
+func Variadic(x ...float64) float64 { return 0 }
+
+func Generic[T float64](x T) T { return x }
+
+type Vec = [2]float64
+
+func AliasObj(x Vec) float64 { return 0 }
+
+func ScalarGradWrong(x float64) float32 { return 0 }
+`
+
+// misfitWant is one expected problem: in the spec at a line of the case's body
+// (1 = the line after name) or in obj.go at an absolute line, with the
+// exact column and substrings of the message. A spec value that is an array
+// is positioned at its first element (its own range is empty in go-toml's
+// parser), so `start = [1.0]` points at column 10, `start = 1.0` at 9.
+type misfitWant struct {
+	inGo      bool
+	line, col int
+	has       []string
+}
+
+func misfitInSpec(line, col int, has ...string) misfitWant { return misfitWant{false, line, col, has} }
+func misfitInGo(line, col int, has ...string) misfitWant   { return misfitWant{true, line, col, has} }
+
+const (
+	acceptedObjectiveForms = "func(x T) T, func(x [N]T) T, func(x *[N]T) T, func(x []T) T (with dim)"
+	acceptedGradientForm1  = "func(x T) T for scalar objectives"
+	acceptedGradientForm2  = "func(x *[N]T, g *[N]T)"
+	acceptedGradientForm3  = "func(x [N]T) [N]T"
+	acceptedGradientForm4  = "func(x, g []T)"
+)
+
+// misfits are minimizers whose objective, gradient or instance does not fit
+// the package. Each becomes one [[minimizer]] named after its index; all go
+// into one spec, so they are also reported together in one run.
+var misfits = []struct {
+	name string
+	body string // keys after name
+	want []misfitWant
+}{
+	{"wrong param count", `objective = "TwoParams"
+start = 1.0`, []misfitWant{
+		misfitInGo(3, 6, "objective TwoParams has signature func(x float64, y float64) float64", acceptedObjectiveForms),
+	}},
+	{"returns int", `objective = "ReturnsInt"
+start = 1.0`, []misfitWant{
+		misfitInGo(5, 6, "objective ReturnsInt has signature func(x float64) int", acceptedObjectiveForms),
+	}},
+	{"mixed float32 and float64", `objective = "Mixed"
+start = [1.0, 2.0]`, []misfitWant{
+		misfitInGo(7, 6, "objective Mixed has signature func(x [2]float32) float64", acceptedObjectiveForms),
+	}},
+	{"variadic", `objective = "Variadic"
+start = 1.0`, []misfitWant{
+		misfitInGo(41, 6, "objective Variadic has signature func(x ...float64) float64", acceptedObjectiveForms),
+	}},
+	{"generic", `objective = "Generic"
+start = 1.0`, []misfitWant{
+		misfitInGo(43, 6, "objective Generic has signature func[T float64](x T) T", acceptedObjectiveForms),
+	}},
+	{"slice without dim", `objective = "SliceObj"
+start = [1.0, 2.0]`, []misfitWant{
+		misfitInSpec(1, 13, "objective SliceObj takes a slice: set dim to the number of unknowns"),
+	}},
+	{"slice start shorter than dim", `objective = "SliceObj"
+dim = 3
+start = [1.0, 2.0]`, []misfitWant{
+		misfitInSpec(3, 10, "start has 2 values, the objective has 3 unknowns"),
+	}},
+	{"dim for an array objective", `objective = "ArrayObj"
+start = [1.0, 2.0]
+dim = 2`, []misfitWant{
+		misfitInSpec(3, 1, "dim is only for objectives that take a slice; ArrayObj fixes the dimension at 2"),
+	}},
+	{"start too long", `objective = "ArrayObj"
+start = [1.0, 2.0, 3.0]`, []misfitWant{
+		misfitInSpec(2, 10, "start has 3 values, the objective has 2 unknowns"),
+	}},
+	{"scalar start for a vector", `objective = "ArrayObj"
+start = 1.0`, []misfitWant{
+		misfitInSpec(2, 9, "start must be an array of 2 numbers"),
+	}},
+	{"vector start for a scalar", `objective = "ScalarObj"
+start = [1.0]`, []misfitWant{
+		misfitInSpec(2, 10, "start must be a single number: ScalarObj takes a scalar"),
+	}},
+	{"start not numbers", `objective = "AliasObj"
+start = "one"`, []misfitWant{
+		misfitInSpec(2, 9, "start must be a number or an array of numbers"),
+	}},
+	{"start not finite", `objective = "ScalarObj"
+start = nan`, []misfitWant{
+		misfitInSpec(2, 9, "start must be finite"),
+	}},
+	{"expect.x of the wrong shape", `objective = "ArrayObj"
+start = [1.0, 2.0]
+[minimizer.expect]
+x = 1.0`, []misfitWant{
+		misfitInSpec(4, 5, "expect.x must have the shape of start (2 values)"),
+	}},
+	{"objective not found", `objective = "Missing"
+start = 1.0`, []misfitWant{
+		misfitInSpec(1, 13, "objective Missing: no such function in package bad"),
+	}},
+	{"objective is a var", `objective = "NotFunc"
+start = 1.0`, []misfitWant{
+		misfitInGo(15, 5, "objective NotFunc is not a function"),
+	}},
+	{"method on a missing type", `objective = "Nope.Loss"
+start = 1.0`, []misfitWant{
+		misfitInSpec(1, 13, "objective Nope.Loss: no type Nope in package bad"),
+	}},
+	{"missing method", `objective = "Model.Nope"
+start = 1.0`, []misfitWant{
+		misfitInSpec(1, 13, "objective Model.Nope: type Model has no method Nope"),
+	}},
+	{"gradient of the wrong shape", `objective = "Model.Loss"
+derivative = "analytic"
+gradient = "BadGrad"
+start = [1.0, 2.0]`, []misfitWant{
+		misfitInGo(23, 16, "gradient BadGrad has signature func(x [2]float64) float64, which does not fit an objective of [2]float64",
+			acceptedGradientForm1, acceptedGradientForm2, acceptedGradientForm3, acceptedGradientForm4),
+	}},
+	{"gradient of the wrong dimension", `objective = "PtrObj"
+derivative = "analytic"
+gradient = "WrongDimGrad"
+start = [1.0, 2.0]`, []misfitWant{
+		misfitInGo(33, 6, "gradient WrongDimGrad has signature func(x *[3]float64, g *[3]float64), which does not fit an objective of [2]float64",
+			acceptedGradientForm2, acceptedGradientForm3, acceptedGradientForm4),
+	}},
+	{"scalar gradient of the wrong element type", `objective = "ScalarObj"
+derivative = "analytic"
+gradient = "ScalarGradWrong"
+start = 1.0`, []misfitWant{
+		misfitInGo(49, 6, "gradient ScalarGradWrong has signature func(x float64) float32, which does not fit an objective of float64",
+			acceptedGradientForm1),
+	}},
+	{"gradient of the wrong receiver type", `objective = "Model.Loss"
+derivative = "analytic"
+gradient = "Other.Grad"
+start = [1.0, 2.0]`, []misfitWant{
+		misfitInSpec(3, 12, "gradient Other.Grad must be a method of Model, the objective's receiver type"),
+	}},
+	{"method gradient for a function objective", `objective = "PtrObj"
+derivative = "analytic"
+gradient = "Model.Grad"
+start = [1.0, 2.0]`, []misfitWant{
+		misfitInSpec(3, 12, "gradient Model.Grad must be a plain function, like the objective"),
+	}},
+	{"function gradient for a method objective", `objective = "Model.Loss"
+derivative = "analytic"
+gradient = "PlainGrad"
+start = [1.0, 2.0]`, []misfitWant{
+		misfitInSpec(3, 12, "gradient PlainGrad: type Model has no method PlainGrad"),
+	}},
+	{"gradient not found", `objective = "ScalarObj"
+derivative = "analytic"
+gradient = "Missing"
+start = 1.0`, []misfitWant{
+		misfitInSpec(3, 12, "gradient Missing: no such function in package bad"),
+	}},
+	{"instance var of the wrong type", `objective = "Model.Loss"
+instance = "WrongInstance"
+start = [1.0, 2.0]`, []misfitWant{
+		misfitInSpec(2, 12, "instance WrongInstance has type float64; want Model or *Model"),
+	}},
+	{"instance func of the wrong type", `objective = "Model.Loss"
+instance = "NewOther"
+start = [1.0, 2.0]`, []misfitWant{
+		misfitInSpec(2, 12, "instance NewOther has type Other; want Model or *Model"),
+	}},
+	{"instance func with parameters", `objective = "Model.Loss"
+instance = "TwoParams"
+start = [1.0, 2.0]`, []misfitWant{
+		misfitInSpec(2, 12, "instance TwoParams must be a package-level variable or a func() returning Model"),
+	}},
+	{"instance not found", `objective = "Model.Loss"
+instance = "Missing"
+start = [1.0, 2.0]`, []misfitWant{
+		misfitInSpec(2, 12, "instance Missing: no such variable or function in package bad"),
+	}},
+	{"instance for a plain function", `objective = "ScalarObj"
+instance = "DefaultModel"
+start = 1.0`, []misfitWant{
+		misfitInSpec(2, 1, "instance is only for objectives that are methods; ScalarObj is a function"),
+	}},
+}
+
+// writeMisfitModule writes module "bad" with misfitSource and returns its
+// directory.
+func writeMisfitModule(t *testing.T) string {
+	t.Helper()
+	dir := t.TempDir()
+	for name, data := range map[string]string{
+		"go.mod": "module bad\n\ngo 1.24\n",
+		"obj.go": misfitSource,
+	} {
+		if err := os.WriteFile(filepath.Join(dir, name), []byte(data), 0o644); err != nil {
+			t.Fatal(err)
+		}
+	}
+	return dir
+}
+
+func TestObjectiveErrors(t *testing.T) {
+	dir := writeMisfitModule(t)
+	var spec strings.Builder
+	starts := make([]int, len(misfits)) // line of each case's body
+	line := 1
+	for i, c := range misfits {
+		block := fmt.Sprintf("[[minimizer]]\nname = \"Misfit%d\"\n", i)
+		starts[i] = line + 2
+		block += c.body + "\n\n"
+		spec.WriteString(block)
+		line += strings.Count(block, "\n")
+	}
+	specPath := filepath.Join(dir, "bad.toml")
+	if err := os.WriteFile(specPath, []byte(spec.String()), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	before := dirListing(t, dir)
+
+	plans, err := Plans([]string{specPath})
+	if err == nil {
+		t.Fatalf("Plans succeeded with %d plans, want errors", len(plans))
+	}
+	var probs Problems
+	if !errors.As(err, &probs) {
+		t.Fatalf("error is %T, want Problems: %v", err, err)
+	}
+	goFile, _ := filepath.EvalSymlinks(filepath.Join(dir, "obj.go"))
+	used := make([]bool, len(probs))
+	for i, c := range misfits {
+		t.Run(c.name, func(t *testing.T) {
+			for _, w := range c.want {
+				pos := Pos{File: specPath, Line: starts[i] + w.line - 1, Col: w.col}
+				if w.inGo {
+					pos = Pos{File: goFile, Line: w.line, Col: w.col}
+				}
+				found := false
+				for j, p := range probs {
+					file, _ := filepath.EvalSymlinks(p.Pos.File)
+					if used[j] || file != pos.File || p.Pos.Line != pos.Line || p.Pos.Col != pos.Col || !hasAll(p.Msg, w.has) {
+						continue
+					}
+					used[j], found = true, true
+					break
+				}
+				if !found {
+					t.Errorf("no problem at %s containing %q; got:\n%v", pos, w.has, err)
+				}
+			}
+		})
+	}
+	for j, p := range probs {
+		if !used[j] {
+			t.Errorf("unexpected problem: %s", p.Error())
+		}
+	}
+	if after := dirListing(t, dir); after != before {
+		t.Errorf("resolving wrote into the package:\nbefore %s\nafter  %s", before, after)
+	}
+}
+
+// TestObjectiveFixtureResolves guards the fixture: well-formed minimizers
+// on the same package resolve, so the misfits fail for their own reasons.
+func TestObjectiveFixtureResolves(t *testing.T) {
+	dir := writeMisfitModule(t)
+	spec := `[[minimizer]]
+name = "Good1"
+objective = "Model.Loss"
+derivative = "analytic"
+gradient = "Model.Grad"
+instance = "DefaultModel"
+start = [1.0, 2.0]
+
+[[minimizer]]
+name = "Good2"
+objective = "SliceObj"
+dim = 2
+start = [1.0, 2.0]
+
+[[minimizer]]
+name = "Good3"
+objective = "PtrObj"
+derivative = "analytic"
+gradient = "PlainGrad"
+start = [1.0, 2.0]
+
+[[minimizer]]
+name = "Good4"
+objective = "AliasObj"
+start = [1.0, 2.0]
+`
+	specPath := filepath.Join(dir, "good.toml")
+	if err := os.WriteFile(specPath, []byte(spec), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	plans, err := Plans([]string{specPath})
+	if err != nil {
+		t.Fatalf("Plans: %v", err)
+	}
+	if len(plans) != 4 {
+		t.Fatalf("got %d plans, want 4", len(plans))
+	}
+}
+
+// TestObjectivePackageTypeError: a type error in the user's own code is
+// reported at its Go position, and stops resolution.
+func TestObjectivePackageTypeError(t *testing.T) {
+	dir := writeMisfitModule(t)
+	broken := filepath.Join(dir, "broken.go")
+	if err := os.WriteFile(broken, []byte("package bad\n\nvar broken int = \"s\"\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	specPath := filepath.Join(dir, "ok.toml")
+	if err := os.WriteFile(specPath, []byte("[[minimizer]]\nname = \"Fit\"\nobjective = \"ScalarObj\"\nstart = 1.0\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	_, err := Plans([]string{specPath})
+	var probs Problems
+	if !errors.As(err, &probs) {
+		t.Fatalf("error is %T, want Problems: %v", err, err)
+	}
+	want, _ := filepath.EvalSymlinks(broken)
+	// BUG(spec): the same type error arrives twice (go/packages reports it
+	// both from go list and from the type checker), so each line is printed
+	// twice; count is not pinned until that is fixed.
+	for _, p := range probs {
+		file, _ := filepath.EvalSymlinks(p.Pos.File)
+		if file != want || p.Pos.Line != 3 || p.Pos.Col != 18 || !strings.Contains(p.Msg, `cannot use "s"`) {
+			t.Errorf("unexpected problem: %s", p.Error())
+		}
+	}
+	if len(probs) == 0 {
+		t.Errorf("no problem reported for broken.go")
+	}
+}
+
+// BUG(spec): package = "./nowhere" (a directory that does not exist)
+// reports "nowhere:1:1: loading the Go package: err: fork/exec
+// /usr/local/go/bin/go: no such file or directory" — blaming the go binary —
+// plus "spec:1:11: no loadable Go package in nowhere". Want one error at the
+// package value saying the directory does not exist.
+//
+// BUG(spec): package = "empty" (a directory without Go files) reports
+// "empty:1:1: no Go files in /abs/path/empty" and then, per minimizer,
+// "objective F: no such function in package " (empty package name). Want
+// one error at the package value.
+
+func hasAll(s string, subs []string) bool {
+	for _, sub := range subs {
+		if !strings.Contains(s, sub) {
+			return false
+		}
+	}
+	return true
+}
+
+// dirListing renders a directory's file names and sizes, hidden files included.
+func dirListing(t *testing.T, dir string) string {
+	t.Helper()
+	entries, err := os.ReadDir(dir)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var b strings.Builder
+	for _, e := range entries {
+		info, err := e.Info()
+		if err != nil {
+			t.Fatal(err)
+		}
+		fmt.Fprintf(&b, "%s:%d ", e.Name(), info.Size())
+	}
+	return b.String()
+}
