@@ -206,7 +206,7 @@ start = [1.0, 2.0]`, []misfitWant{
 derivative = "analytic"
 gradient = "PlainGrad"
 start = [1.0, 2.0]`, []misfitWant{
-		misfitInSpec(3, 12, "gradient PlainGrad: type Model has no method PlainGrad"),
+		misfitInSpec(3, 12, "gradient PlainGrad is a plain function; it must be a method of Model, like the objective"),
 	}},
 	{"gradient not found", `objective = "ScalarObj"
 derivative = "analytic"
@@ -378,9 +378,9 @@ func TestObjectivePackageTypeError(t *testing.T) {
 		t.Fatalf("error is %T, want Problems: %v", err, err)
 	}
 	want, _ := filepath.EvalSymlinks(broken)
-	// BUG(spec): the same type error arrives twice (go/packages reports it
-	// both from go list and from the type checker), so each line is printed
-	// twice; count is not pinned until that is fixed.
+	if len(probs) != 1 {
+		t.Errorf("got %d problems, want the type error once: %v", len(probs), probs)
+	}
 	for _, p := range probs {
 		file, _ := filepath.EvalSymlinks(p.Pos.File)
 		if file != want || p.Pos.Line != 3 || p.Pos.Col != 18 || !strings.Contains(p.Msg, `cannot use "s"`) {
@@ -392,16 +392,34 @@ func TestObjectivePackageTypeError(t *testing.T) {
 	}
 }
 
-// BUG(spec): package = "./nowhere" (a directory that does not exist)
-// reports "nowhere:1:1: loading the Go package: err: fork/exec
-// /usr/local/go/bin/go: no such file or directory" — blaming the go binary —
-// plus "spec:1:11: no loadable Go package in nowhere". Want one error at the
-// package value saying the directory does not exist.
-//
-// BUG(spec): package = "empty" (a directory without Go files) reports
-// "empty:1:1: no Go files in /abs/path/empty" and then, per minimizer,
-// "objective F: no such function in package " (empty package name). Want
-// one error at the package value.
+// TestPackageDirectoryProblems: a package directory that does not exist,
+// or holds no Go files, is one error at the spec's package value.
+func TestPackageDirectoryProblems(t *testing.T) {
+	dir := t.TempDir()
+	if err := os.Mkdir(filepath.Join(dir, "empty"), 0o755); err != nil {
+		t.Fatal(err)
+	}
+	for _, c := range []struct{ pkg, want string }{
+		{"./nowhere", "package directory %s does not exist"},
+		{"empty", "package directory %s has no Go files"},
+	} {
+		spec := filepath.Join(dir, "spec.toml")
+		body := "package = \"" + c.pkg + "\"\n\n[[minimizer]]\nname = \"Fit\"\nobjective = \"F\"\nstart = 1.0\n"
+		if err := os.WriteFile(spec, []byte(body), 0o644); err != nil {
+			t.Fatal(err)
+		}
+		_, err := Plans([]string{spec})
+		var probs Problems
+		if !errors.As(err, &probs) || len(probs) != 1 {
+			t.Fatalf("package %q: got %v, want one problem", c.pkg, err)
+		}
+		p := probs[0]
+		wantMsg := fmt.Sprintf(c.want, displayPath(filepath.Join(dir, filepath.FromSlash(c.pkg))))
+		if p.Pos.File != spec || p.Pos.Line != 1 || p.Pos.Col != 11 || p.Msg != wantMsg {
+			t.Errorf("package %q: got %s, want %s:1:11: %s", c.pkg, p.Error(), spec, wantMsg)
+		}
+	}
+}
 
 func hasAll(s string, subs []string) bool {
 	for _, sub := range subs {

@@ -37,16 +37,45 @@ var badSpecs = []struct {
 	{"unknown_table.toml", []string{
 		`6:2: unknown key "minimizer.steps"`,
 	}},
-	// Type mismatches point at the value. The message names nadir's Go
-	// struct fields rather than the spec key (reported as unclear).
+	// Type mismatches point at the value and name the spec key.
 	{"type_string_for_number.toml", []string{
-		"7:10: cannot decode TOML string into struct field gen.stepSpec.Shrink of type float64",
+		"7:10: step.shrink must be a number, not a TOML string",
 	}},
 	{"type_float_for_int.toml", []string{
-		"7:10: cannot decode TOML float into struct field gen.stepSpec.Trials of type int64",
+		"7:10: step.trials must be a whole number, not a TOML float",
 	}},
 	{"type_number_for_string.toml", []string{
-		"4:13: cannot decode TOML integer into struct field gen.minimizerSpec.Direction of type string",
+		"4:13: direction must be a string, not a TOML integer",
+	}},
+	// Infinite values are outside every range, even "(0, ∞)".
+	{"infinite_values.toml", []string{
+		"7:11: step.initial must be in (0, ∞), got +Inf",
+		"10:12: stop.gradient must be in [0, ∞), got +Inf",
+		"11:8: stop.step must be in [0, ∞), got +Inf",
+	}},
+	// A plain [minimizer] table would decode, but its keys would have no
+	// positions: it is refused at its header.
+	{"single_table.toml", []string{
+		"1:2: write [[minimizer]], an array of tables, not [minimizer]",
+	}},
+	// A conflict with cg's default c2 points at the decrease the file sets.
+	{"curvature_default_below_decrease.toml", []string{
+		`9:12: step.decrease (c1 = 0.2) must be below the curvature constant c2 = 0.1, the default for direction "cg"; lower decrease or set step.curvature`,
+	}},
+	// An unknown choice does not cascade into errors about keys that
+	// depend on it.
+	{"cascade_unknown_enum.toml", []string{
+		`4:14: derivative "exact" is not one of "analytic", "central", "forward"`,
+		`6:13: direction "l-bfgs" is not one of "bfgs", "cg", "lbfgs", "steepest"`,
+	}},
+	// An unknown key inside an inline table keeps the table's name.
+	{"unknown_key_inline.toml", []string{
+		`5:27: unknown key "minimizer.step.shrinc"`,
+	}},
+	// Output names the go tool would ignore or build only on one platform.
+	{"output_ignored_by_go.toml", []string{
+		`5:10: output "_fit.go" starts with "_": the go tool ignores such files`,
+		`10:10: output ".go" starts with ".": the go tool ignores such files`,
 	}},
 
 	// Top level.
@@ -214,36 +243,8 @@ var badSpecs = []struct {
 
 // badSpecBugs are files under testdata/bad whose errors are wrong today;
 // they stay out of badSpecs so the suite is green, and each is reported.
-var badSpecBugs = map[string]string{
-	// BUG(spec): initial = inf, stop.gradient = inf and stop.step = inf are
-	// accepted: rules.Param.Contains takes v == High for High = +Inf, while
-	// Range prints the range as open at ∞. Want three "must be in …, got +Inf".
-	"bug_infinite_values.toml": "infinite step.initial / stop.gradient / stop.step accepted",
-	// BUG(spec): a single [minimizer] table is decoded as a one-element
-	// array but indexPositions records its keys as minimizer.name, not
-	// minimizer.0.name, so every later error falls back to 1:2. Want 2:8 and
-	// 7:10 (or one error asking for [[minimizer]]).
-	"bug_single_table.toml": "[minimizer] instead of [[minimizer]] loses every position",
-	// BUG(spec): with direction = "cg" and rule "strong-wolfe" the default
-	// c2 = 0.1 is below decrease = 0.2; the error names step.curvature,
-	// which the file never sets, and points at the [minimizer.step] header
-	// (7:2). Want it at the decrease value (9:12), naming c2 as cg's default.
-	"bug_curvature_default_below_decrease.toml": "default curvature conflict points at the table header",
-	// BUG(spec): an unknown derivative / direction cascades into
-	// `gradient is only used with derivative = "analytic" (derivative is "")`
-	// and `memory is only used with direction = "lbfgs" (direction is "")`.
-	// Want only the two "is not one of" errors.
-	"bug_cascade_unknown_enum.toml": "unknown enum value cascades into messages quoting \"\"",
-	// BUG(spec): an unknown key inside an inline table, step = { shrinc = … },
-	// is reported as "minimizer.shrinc" (position 5:27 is right). Want
-	// "minimizer.step.shrinc".
-	"bug_unknown_key_inline.toml": "unknown key in an inline table loses the table's name",
-	// BUG(spec): output = "_fit.go" and output = ".go" are accepted, but the
-	// go tool ignores files whose names start with "_" or ".", so the
-	// generated minimizer would never be compiled. Want an error at 5:10 and
-	// 10:10.
-	"bug_output_ignored_by_go.toml": "output names the go tool ignores are accepted",
-}
+// None is known now.
+var badSpecBugs = map[string]string{}
 
 func badSpecPath(file string) string {
 	return filepath.Join("..", "testdata", "bad", file)
@@ -342,8 +343,8 @@ func TestBadSpecSnippets(t *testing.T) {
 		want []string
 	}{
 		{"empty name and objective", "[[minimizer]]\nname = \"\"\nobjective = \"\"\nstart = 1.0\n", []string{
-			"1:3: name is required: the exported Go name of the minimizer",
-			`1:3: objective is required: "Func" or "Type.Method" in the package`,
+			"2:8: name must not be empty: it is the exported Go name of the minimizer",
+			`3:13: objective must not be empty: "Func" or "Type.Method" in the package`,
 		}},
 		{"duplicate key", "[[minimizer]]\nname = \"Fit\"\nname = \"Fit2\"\n", []string{
 			"3:1: key name is already defined",
@@ -370,7 +371,7 @@ func TestBadSpecSnippets(t *testing.T) {
 		// A type error stops go-toml, so the unknown key before it is not
 		// reported in the same run.
 		{"type error hides unknown key", "bogus = 1\n" + head + "memory = \"x\"\n", []string{
-			"6:10: cannot decode TOML string into struct field gen.minimizerSpec.Memory of type int64",
+			"6:10: memory must be a whole number, not a TOML string",
 		}},
 	}
 	for _, c := range cases {

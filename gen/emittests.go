@@ -110,6 +110,9 @@ func EmitTests(w io.Writer, p *Plan) error {
 // literal renders values as X: a number, or an array literal.
 func literal(p *Plan, vals []float64) *jen.Statement {
 	if p.Shape.Scalar() {
+		if p.Shape.Elem == "float32" {
+			return jen.Id("float32").Call(jen.Op(formatFloat(vals[0])))
+		}
 		return jen.Op(formatFloat(vals[0]))
 	}
 	items := make([]jen.Code, len(vals))

@@ -36,7 +36,14 @@ func (ps Problems) Err() error {
 	if len(ps) == 0 {
 		return nil
 	}
-	sorted := append(Problems(nil), ps...)
+	var sorted Problems
+	seen := map[Problem]bool{}
+	for _, p := range ps {
+		if !seen[p] {
+			seen[p] = true
+			sorted = append(sorted, p)
+		}
+	}
 	sort.SliceStable(sorted, func(i, j int) bool {
 		a, b := sorted[i].Pos, sorted[j].Pos
 		if a.File != b.File {

@@ -2,6 +2,7 @@ package gen
 
 import (
 	"fmt"
+	"go/ast"
 	"go/token"
 	"go/types"
 	"math"
@@ -95,10 +96,56 @@ func loadPackage(dir string, probs *Problems) *loadedPackage {
 			if abs, _ := filepath.Abs(problem.Pos.File); lp.files[abs] {
 				continue // about to be replaced
 			}
+			if lp.aboutGeneratedFile(problem.Msg) {
+				continue // a clash with an old generated file: checkCollisions says it better
+			}
+			problem.Msg = strings.Join(strings.Fields(problem.Msg), " ")
 			*probs = append(*probs, problem)
 		}
 	}
 	return lp
+}
+
+// aboutGeneratedFile reports whether a redeclaration error is about a
+// name one of nadir's files declares.
+func (lp *loadedPackage) aboutGeneratedFile(msg string) bool {
+	name, _, ok := strings.Cut(msg, " redeclared")
+	if !ok {
+		return false
+	}
+	_, generated := lp.names(true)[name]
+	return generated
+}
+
+// names maps each package-level name declared in nadir's files
+// (generated) or in the user's (not generated) to its declaration.
+func (lp *loadedPackage) names(generated bool) map[string]token.Pos {
+	names := map[string]token.Pos{}
+	for _, f := range lp.pkg.Syntax {
+		if lp.files[lp.pkg.Fset.Position(f.Pos()).Filename] != generated {
+			continue
+		}
+		for _, d := range f.Decls {
+			switch d := d.(type) {
+			case *ast.FuncDecl:
+				if d.Recv == nil {
+					names[d.Name.Name] = d.Name.Pos()
+				}
+			case *ast.GenDecl:
+				for _, s := range d.Specs {
+					switch s := s.(type) {
+					case *ast.TypeSpec:
+						names[s.Name.Name] = s.Name.Pos()
+					case *ast.ValueSpec:
+						for _, n := range s.Names {
+							names[n.Name] = n.Pos()
+						}
+					}
+				}
+			}
+		}
+	}
+	return names
 }
 
 // splitPackageError turns one go/packages error into positioned problems.
@@ -111,6 +158,10 @@ func splitPackageError(e packages.Error, dir string) []Problem {
 	}
 	var out []Problem
 	for _, line := range strings.Split(e.Msg, "\n")[1:] {
+		if strings.HasPrefix(line, "\t") && len(out) > 0 {
+			out[len(out)-1].Msg += "; " + strings.TrimSpace(line) // a note on the error above
+			continue
+		}
 		file, rest, ok := strings.Cut(line, ": ")
 		if !ok {
 			continue
@@ -263,6 +314,10 @@ func (lp *loadedPackage) lookupFunc(ref string, onType *types.Named, pos Pos, wh
 		}
 		sel := types.NewMethodSet(types.NewPointer(named)).Lookup(lp.pkg.Types, method)
 		if sel == nil {
+			if _, plain := scope.Lookup(ref).(*types.Func); plain && onType != nil {
+				probs.add(pos, "%s %s is a plain function; it must be a method of %s, like the objective", what, ref, typeName)
+				return nil, nil
+			}
 			probs.add(pos, "%s %s: type %s has no method %s", what, ref, typeName, method)
 			return nil, nil
 		}

@@ -1,6 +1,7 @@
 package gen
 
 import (
+	"sort"
 	"strconv"
 	"strings"
 
@@ -15,12 +16,13 @@ type positions struct {
 	file   string
 	keys   map[string]Pos
 	values map[string]Pos
+	tables map[string]Pos // plain [table] headers, by path as written
 }
 
 // indexPositions walks the spec with go-toml's unstable parser. It returns
 // nil when the document does not parse; the decoder reports that error.
 func indexPositions(file string, data []byte) *positions {
-	ix := &positions{file: file, keys: map[string]Pos{}, values: map[string]Pos{}}
+	ix := &positions{file: file, keys: map[string]Pos{}, values: map[string]Pos{}, tables: map[string]Pos{}}
 	var p unstable.Parser
 	p.Reset(data)
 	arrayCounts := map[string]int{} // array-table path → elements seen
@@ -76,6 +78,8 @@ func indexPositions(file string, data []byte) *positions {
 			parts, first := keyParts(e)
 			if e.Kind == unstable.ArrayTable {
 				arrayCounts[strings.Join(parts, ".")]++
+			} else {
+				ix.tables[strings.Join(parts, ".")] = pos(first)
 			}
 			table = resolve(parts)
 			ix.keys[strings.Join(table, ".")] = pos(first)
@@ -103,6 +107,28 @@ func keyParts(n *unstable.Node) ([]string, *unstable.Node) {
 		parts = append(parts, string(k.Data))
 	}
 	return parts, first
+}
+
+// pathAt returns the key path, array indexes dropped, of the key at pos:
+// go-toml names a key inside an inline table without the table.
+func (ix *positions) pathAt(pos Pos) (string, bool) {
+	var found []string
+	for path, p := range ix.keys {
+		if p == pos {
+			found = append(found, path)
+		}
+	}
+	if len(found) == 0 {
+		return "", false
+	}
+	sort.Strings(found)
+	var parts []string
+	for _, part := range strings.Split(found[len(found)-1], ".") {
+		if _, err := strconv.Atoi(part); err != nil {
+			parts = append(parts, part)
+		}
+	}
+	return strings.Join(parts, "."), true
 }
 
 // key returns the position of a key, falling back to its nearest

@@ -8,6 +8,7 @@ import (
 	"math"
 	"os"
 	"path/filepath"
+	"regexp"
 	"strings"
 
 	toml "github.com/pelletier/go-toml/v2"
@@ -130,6 +131,7 @@ func ParseSpec(path string) (*Spec, error) {
 func parseSpecData(path string, data []byte) (*Spec, error) {
 	var probs Problems
 	var doc specFile
+	ix := indexPositions(path, data)
 	dec := toml.NewDecoder(bytes.NewReader(data))
 	dec.DisallowUnknownFields()
 	if err := dec.Decode(&doc); err != nil {
@@ -139,18 +141,27 @@ func parseSpecData(path string, data []byte) (*Spec, error) {
 		case errors.As(err, &strict):
 			for _, e := range strict.Errors {
 				line, col := e.Position()
-				probs.add(Pos{path, line, col}, "unknown key %q", strings.Join(e.Key(), "."))
+				pos := Pos{path, line, col}
+				key := strings.Join(e.Key(), ".")
+				if ix != nil {
+					if full, ok := ix.pathAt(pos); ok {
+						key = full
+					}
+				}
+				probs.add(pos, "unknown key %q", key)
 			}
 		case errors.As(err, &decode):
 			line, col := decode.Position()
-			return nil, Problems{{Pos{path, line, col}, strings.TrimPrefix(decode.Error(), "toml: ")}}.Err()
+			return nil, Problems{{Pos{path, line, col}, decodeMessage(decode)}}.Err()
 		default:
 			return nil, Problems{{Pos{path, 1, 1}, err.Error()}}.Err()
 		}
 	}
-	ix := indexPositions(path, data)
 	if ix == nil { // cannot happen after a successful decode; keep errors positioned anyway
-		ix = &positions{file: path, keys: map[string]Pos{}, values: map[string]Pos{}}
+		ix = &positions{file: path, keys: map[string]Pos{}, values: map[string]Pos{}, tables: map[string]Pos{}}
+	}
+	if pos, ok := ix.tables["minimizer"]; ok {
+		return nil, Problems{{pos, "write [[minimizer]], an array of tables, not [minimizer]"}}.Err()
 	}
 	spec := &Spec{Path: path, pos: ix}
 	dir := filepath.Dir(path)
@@ -188,6 +199,27 @@ func parseSpecData(path string, data []byte) (*Spec, error) {
 	return spec, nil
 }
 
+var decodeTypePattern = regexp.MustCompile(`cannot decode TOML (\w+) into .* of type (\S+)$`)
+
+// decodeMessage rewrites go-toml's type-mismatch message, which names
+// nadir's Go fields, in the spec's terms.
+func decodeMessage(e *toml.DecodeError) string {
+	msg := strings.TrimPrefix(e.Error(), "toml: ")
+	m := decodeTypePattern.FindStringSubmatch(msg)
+	if m == nil || len(e.Key()) == 0 {
+		return msg
+	}
+	want := map[string]string{"float64": "a number", "int64": "a whole number", "string": "a string", "bool": "true or false"}[m[2]]
+	if want == "" {
+		want = "a " + m[2]
+	}
+	key := e.Key()
+	if key[0] == "minimizer" {
+		key = key[1:]
+	}
+	return fmt.Sprintf("%s must be %s, not a TOML %s", strings.Join(key, "."), want, m[1])
+}
+
 // validateMinimizer checks everything about one entry that does not need
 // the objective's shape, and fills in defaults from the rules tables.
 func validateMinimizer(ms *minimizerSpec, i int, ix *positions, probs *Problems) *Minimizer {
@@ -196,12 +228,16 @@ func validateMinimizer(ms *minimizerSpec, i int, ix *positions, probs *Problems)
 	m := &Minimizer{Index: i, keyPrefix: key, Name: ms.Name, Objective: ms.Objective, start: ms.Start, stopSet: map[string]bool{}}
 
 	switch {
+	case ms.Name == "" && ix.keys[key+".name"] != (Pos{}):
+		probs.add(at("name"), "name must not be empty: it is the exported Go name of the minimizer")
 	case ms.Name == "":
 		probs.add(ix.key(key), "name is required: the exported Go name of the minimizer")
 	case !token.IsIdentifier(ms.Name) || !token.IsExported(ms.Name):
 		probs.add(at("name"), "name %q is not an exported Go identifier", ms.Name)
 	}
 	switch {
+	case ms.Objective == "" && ix.keys[key+".objective"] != (Pos{}):
+		probs.add(at("objective"), "objective must not be empty: \"Func\" or \"Type.Method\" in the package")
 	case ms.Objective == "":
 		probs.add(ix.key(key), "objective is required: \"Func\" or \"Type.Method\" in the package")
 	case !validReference(ms.Objective):
@@ -216,6 +252,8 @@ func validateMinimizer(ms *minimizerSpec, i int, ix *positions, probs *Problems)
 		m.Gradient = *ms.Gradient
 	}
 	switch {
+	case m.Derivative == "":
+		// unknown derivative, already reported
 	case m.Derivative == "analytic" && ms.Gradient == nil:
 		probs.add(at("derivative"), "derivative = \"analytic\" needs a gradient key naming the gradient function")
 	case m.Derivative != "analytic" && ms.Gradient != nil:
@@ -226,7 +264,9 @@ func validateMinimizer(ms *minimizerSpec, i int, ix *positions, probs *Problems)
 
 	m.Memory = int(rules.Memory.Default)
 	if ms.Memory != nil {
-		if m.Direction != "lbfgs" {
+		if m.Direction == "" {
+			// unknown direction, already reported
+		} else if m.Direction != "lbfgs" {
 			probs.add(ix.key(key+".memory"), "memory is only used with direction = \"lbfgs\" (direction is %q)", m.Direction)
 		} else if checkParam(rules.Memory, float64(*ms.Memory), key+".memory", ix, probs) {
 			m.Memory = int(*ms.Memory)
@@ -253,6 +293,10 @@ func validateMinimizer(ms *minimizerSpec, i int, ix *positions, probs *Problems)
 			probs.add(at("output"), "output %q must be a file name in the objective's package directory, without folders", m.Output)
 		case !strings.HasSuffix(m.Output, ".go") || strings.HasSuffix(m.Output, "_test.go"):
 			probs.add(at("output"), "output %q must end in .go and not in _test.go", m.Output)
+		case strings.HasPrefix(m.Output, "_") || strings.HasPrefix(m.Output, "."):
+			probs.add(at("output"), "output %q starts with %q: the go tool ignores such files", m.Output, m.Output[:1])
+		case buildConstrained(m.Output):
+			probs.add(at("output"), "output %q ends in a GOOS or GOARCH suffix: the go tool would build it only there", m.Output)
 		}
 	}
 
@@ -314,7 +358,11 @@ func validateStep(ms *minimizerSpec, m *Minimizer, key string, ix *positions, pr
 		}
 	}
 	if _, wolfe := rule.Param("curvature"); wolfe && !(m.Curvature > m.Decrease) {
-		probs.add(ix.value(key+".step.curvature"), "step.curvature (c2 = %v) must exceed step.decrease (c1 = %v)", m.Curvature, m.Decrease)
+		if ms.Step.Curvature != nil {
+			probs.add(ix.value(key+".step.curvature"), "step.curvature (c2 = %v) must exceed step.decrease (c1 = %v)", m.Curvature, m.Decrease)
+		} else {
+			probs.add(ix.value(key+".step.decrease"), "step.decrease (c1 = %v) must be below the curvature constant c2 = %v, the default for direction %q; lower decrease or set step.curvature", m.Decrease, m.Curvature, m.Direction)
+		}
 	}
 
 	var stop StopLimits
@@ -427,4 +475,27 @@ func numbers(v any) (vals []float64, scalar, ok bool) {
 		return vals, false, true
 	}
 	return nil, false, false
+}
+
+// buildConstrained reports whether a file name ends in _GOOS, _GOARCH or
+// _GOOS_GOARCH, which the go tool treats as a build constraint.
+func buildConstrained(name string) bool {
+	parts := strings.Split(strings.TrimSuffix(name, ".go"), "_")
+	n := len(parts)
+	if n >= 2 && (knownOS[parts[n-1]] || knownArch[parts[n-1]]) {
+		return true
+	}
+	return n >= 3 && knownOS[parts[n-2]] && knownArch[parts[n-1]]
+}
+
+// The GOOS and GOARCH values the go tool knows (go/build's syslist).
+var knownOS = setOf("aix android darwin dragonfly freebsd hurd illumos ios js linux nacl netbsd openbsd plan9 solaris wasip1 windows zos")
+var knownArch = setOf("386 amd64 amd64p32 arm armbe arm64 arm64be loong64 mips mipsle mips64 mips64le mips64p32 mips64p32le ppc ppc64 ppc64le riscv riscv64 s390 s390x sparc sparc64 wasm")
+
+func setOf(words string) map[string]bool {
+	m := map[string]bool{}
+	for _, w := range strings.Fields(words) {
+		m[w] = true
+	}
+	return m
 }

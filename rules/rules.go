@@ -41,7 +41,7 @@ func (p Param) Range() string {
 
 // Contains reports whether v lies in the valid range.
 func (p Param) Contains(v float64) bool {
-	if math.IsNaN(v) || (p.Integer && v != math.Trunc(v)) {
+	if math.IsNaN(v) || math.IsInf(v, 0) || (p.Integer && v != math.Trunc(v)) {
 		return false
 	}
 	if v < p.Low || (p.LowOpen && v == p.Low) {

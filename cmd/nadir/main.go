@@ -34,8 +34,13 @@ func main() {
 func run(args []string, stdout, stderr io.Writer) int {
 	flags := pflag.NewFlagSet("nadir", pflag.ContinueOnError)
 	flags.SetOutput(stderr)
-	flags.Usage = func() { fmt.Fprint(stderr, usage) }
+	flags.Usage = func() {}
 	if err := flags.Parse(args); err != nil {
+		if errors.Is(err, pflag.ErrHelp) {
+			fmt.Fprint(stdout, usage)
+			return 0
+		}
+		fmt.Fprintf(stderr, "nadir: %v\n%s", err, usage)
 		return 2
 	}
 	if flags.NArg() == 0 {
@@ -51,6 +56,9 @@ func run(args []string, stdout, stderr io.Writer) int {
 		}
 		outs, err := gen.Generate(rest)
 		if err != nil {
+			return report(stderr, err)
+		}
+		if err := gen.CheckTargets(outs); err != nil {
 			return report(stderr, err)
 		}
 		if verb == "check" {

@@ -216,10 +216,12 @@ func TestCheck(t *testing.T) {
 		t.Errorf("check with one edited file exited %d, want 1 naming it:\n%s", code, stderr)
 	}
 
-	// BUG(spec): with a hand-written file (no header) at an output path,
-	// check exits 1 ("tune_gain_min.go: stale", "run nadir gen to
-	// regenerate") although gen refuses that file with exit 2; check should
-	// report the same refusal and exit 2. Not asserted here.
+	// A hand-written file at an output path is refused by check as by gen.
+	writeFile(t, "tune_gain_min.go", "package quickstart\n")
+	code, _, stderr = nadir("check", "quickstart.toml")
+	if code != 2 || !strings.Contains(stderr, "tune_gain_min.go:1:1: refusing to overwrite") {
+		t.Errorf("check over a hand-written file exited %d, want 2 with the refusal:\n%s", code, stderr)
+	}
 }
 
 func TestBadSpecChangesNothing(t *testing.T) {
@@ -363,10 +365,8 @@ func TestUsageErrors(t *testing.T) {
 		{"gen"},
 		{"check"},
 		{"rules", "extra"},
-		// BUG(spec): an unknown flag (`nadir --bogus`, `nadir gen x.toml
-		// --bogus`) exits 2 but prints nothing at all: pflag with
-		// ContinueOnError neither prints the error nor calls Usage. Not
-		// listed here until fixed.
+		{"--bogus"},
+		{"gen", "x.toml", "--bogus"},
 	} {
 		code, stdout, stderr := nadir(args...)
 		if code != 2 {
@@ -422,4 +422,29 @@ func keys(m map[string]string) []string {
 	}
 	sort.Strings(ks)
 	return ks
+}
+
+func TestHelpExitsZero(t *testing.T) {
+	for _, flag := range []string{"-h", "--help"} {
+		code, stdout, _ := nadir(flag)
+		if code != 0 || !strings.Contains(stdout, "nadir gen SPEC...") {
+			t.Errorf("nadir %s exited %d, want 0 with the usage on stdout:\n%s", flag, code, stdout)
+		}
+	}
+}
+
+// A user declaration that clashes with a generated name is one line at
+// the user's declaration, also when an older generated file already
+// declares the name (the compiler's "redeclared" error is not repeated).
+func TestGenReportsNameClashOnce(t *testing.T) {
+	quickstartModule(t)
+	if code, _, stderr := nadir("gen", "quickstart.toml"); code != 0 {
+		t.Fatalf("gen exited %d:\n%s", code, stderr)
+	}
+	writeFile(t, "clash.go", "package quickstart\n\ntype CalibrateStatus int\n")
+	code, _, stderr := nadir("gen", "quickstart.toml")
+	want := "clash.go:3:6: CalibrateStatus is already declared in package quickstart; minimizer Calibrate generates a declaration of that name (rename one of them)"
+	if code != 2 || strings.TrimSpace(stderr) != want {
+		t.Errorf("gen exited %d, want 2 with exactly\n%s\ngot:\n%s", code, want, stderr)
+	}
 }
