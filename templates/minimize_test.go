@@ -204,7 +204,7 @@ func TestDifferencesMatchAnalytic(t *testing.T) {
 }
 
 // At an exact minimizer, forward differences still report a gradient of
-// size about h·f'' (Nocedal & Wright 2006, §8.1), above a tight gradient
+// size about h times the second derivative (Nocedal & Wright 2006, §8.1), above a tight gradient
 // limit, and no step can decrease f. Every rule must then stop converged
 // on the step limit, not fail: backtracking and bracketing run down to
 // steps the step test would accept.
