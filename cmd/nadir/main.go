@@ -2,6 +2,7 @@
 //
 //	nadir gen SPEC...     write the generated files
 //	nadir check SPEC...   exit 1 when a generated file is missing or stale
+//	nadir init OBJECTIVE  write a starter spec for an objective
 //	nadir rules           list directions, step rules and derivative sources
 //	nadir version         print the version
 //
@@ -10,10 +11,12 @@
 package main
 
 import (
+	"bytes"
 	"errors"
 	"fmt"
 	"io"
 	"os"
+	"path/filepath"
 
 	"github.com/spf13/pflag"
 
@@ -23,6 +26,9 @@ import (
 const usage = `usage:
   nadir gen SPEC...     write the minimizers each spec names, and their tests
   nadir check SPEC...   write nothing; exit 1 naming each missing or stale file
+  nadir init OBJECTIVE [--out FILE]
+                        write a starter spec for "Func" or "Type.Method" of the
+                        package in FILE's directory (default ./<objective>.toml)
   nadir rules           list directions, step rules and derivative sources
   nadir version         print nadir's version
 `
@@ -35,6 +41,7 @@ func run(args []string, stdout, stderr io.Writer) int {
 	flags := pflag.NewFlagSet("nadir", pflag.ContinueOnError)
 	flags.SetOutput(stderr)
 	flags.Usage = func() {}
+	flags.SetInterspersed(false) // flags after the verb belong to the verb
 	if err := flags.Parse(args); err != nil {
 		if errors.Is(err, pflag.ErrHelp) {
 			fmt.Fprint(stdout, usage)
@@ -50,6 +57,13 @@ func run(args []string, stdout, stderr io.Writer) int {
 	verb, rest := flags.Arg(0), flags.Args()[1:]
 	switch verb {
 	case "gen", "check":
+		verbFlags := pflag.NewFlagSet("nadir "+verb, pflag.ContinueOnError)
+		verbFlags.SetOutput(io.Discard)
+		if err := verbFlags.Parse(rest); err != nil {
+			fmt.Fprintf(stderr, "nadir %s: %v\n%s", verb, err, usage)
+			return 2
+		}
+		rest = verbFlags.Args()
 		if len(rest) == 0 {
 			fmt.Fprintf(stderr, "nadir %s: name at least one spec file\n%s", verb, usage)
 			return 2
@@ -86,12 +100,55 @@ func run(args []string, stdout, stderr io.Writer) int {
 	case "version":
 		fmt.Fprintln(stdout, "nadir", gen.Version)
 		return 0
-	case "init", "tune", "trace":
+	case "init":
+		return runInit(rest, stdout, stderr)
+	case "tune", "trace":
 		fmt.Fprintf(stderr, "nadir %s: not available in this version\n", verb)
 		return 2
 	}
 	fmt.Fprintf(stderr, "nadir: unknown command %q\n%s", verb, usage)
 	return 2
+}
+
+// runInit writes a starter spec; it never overwrites a file.
+func runInit(args []string, stdout, stderr io.Writer) int {
+	flags := pflag.NewFlagSet("nadir init", pflag.ContinueOnError)
+	flags.SetOutput(io.Discard)
+	out := flags.String("out", "", "spec file to write (default ./<objective>.toml)")
+	if err := flags.Parse(args); err != nil || flags.NArg() != 1 {
+		fmt.Fprintf(stderr, "nadir init: name one objective, \"Func\" or \"Type.Method\"\n%s", usage)
+		return 2
+	}
+	ref := flags.Arg(0)
+	path := *out
+	if path == "" {
+		path = gen.StarterPath(ref)
+	}
+	if _, err := os.Stat(path); err == nil {
+		fmt.Fprintf(stderr, "%s:1:1: refusing to overwrite an existing file\n", path)
+		return 2
+	}
+	var spec bytes.Buffer
+	if err := gen.WriteStarter(&spec, filepath.Dir(path), ref); err != nil {
+		return report(stderr, err)
+	}
+	// O_EXCL: never overwrite, even a file created since the check above.
+	f, err := os.OpenFile(path, os.O_WRONLY|os.O_CREATE|os.O_EXCL, 0o644)
+	if err != nil {
+		fmt.Fprintf(stderr, "%s:1:1: %v\n", path, err)
+		return 2
+	}
+	if _, err := f.Write(spec.Bytes()); err != nil {
+		f.Close()
+		fmt.Fprintf(stderr, "%s:1:1: %v\n", path, err)
+		return 2
+	}
+	if err := f.Close(); err != nil {
+		fmt.Fprintf(stderr, "%s:1:1: %v\n", path, err)
+		return 2
+	}
+	fmt.Fprintln(stdout, "wrote", path)
+	return 0
 }
 
 // report prints every problem on its own line and returns exit status 2.

@@ -448,3 +448,59 @@ func TestGenReportsNameClashOnce(t *testing.T) {
 		t.Errorf("gen exited %d, want 2 with exactly\n%s\ngot:\n%s", code, want, stderr)
 	}
 }
+
+// init writes a starter spec with every key, which gen accepts as it is,
+// proposes a fitting gradient and instance, and never overwrites.
+func TestInit(t *testing.T) {
+	quickstartModule(t)
+	writeFile(t, "plant.go", `package quickstart
+
+type Plant struct{ Target [2]float64 }
+
+func NewPlant() *Plant { return &Plant{Target: [2]float64{1, 2}} }
+
+func (p *Plant) Cost(x [2]float64) float64 {
+	a, b := x[0]-p.Target[0], x[1]-p.Target[1]
+	return a*a + b*b
+}
+
+func (p *Plant) CostGrad(x, g *[2]float64) {
+	g[0], g[1] = 2*(x[0]-p.Target[0]), 2*(x[1]-p.Target[1])
+}
+`)
+	code, stdout, stderr := nadir("init", "Plant.Cost")
+	if code != 0 || !strings.Contains(stdout, "plant_cost.toml") {
+		t.Fatalf("init exited %d:\n%s%s", code, stdout, stderr)
+	}
+	data, err := os.ReadFile("plant_cost.toml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	spec := string(data)
+	for _, want := range []string{
+		`name = "MinimizePlantCost"`, `objective = "Plant.Cost"`, `derivative = "analytic"`,
+		`gradient = "Plant.CostGrad"`, `instance = "NewPlant"`, `start = [0.0, 0.0]`,
+		`rule = "armijo"`, `shrink = 0.5`, `evaluations = 10000`, "# memory = 5", "# curvature = 0.9",
+	} {
+		if !strings.Contains(spec, want) {
+			t.Errorf("starter spec lacks %q:\n%s", want, spec)
+		}
+	}
+	if code, _, stderr := nadir("gen", "plant_cost.toml"); code != 0 {
+		t.Fatalf("gen on the starter spec exited %d:\n%s", code, stderr)
+	}
+	if code, _, stderr := nadir("init", "GainCost", "--out", "gain.toml"); code != 0 {
+		t.Fatalf("init --out exited %d:\n%s", code, stderr)
+	}
+	writeFile(t, "gain.toml", "# mine\n")
+	code, _, stderr = nadir("init", "GainCost", "--out", "gain.toml")
+	if got, _ := os.ReadFile("gain.toml"); code != 2 || string(got) != "# mine\n" || !strings.Contains(stderr, "gain.toml:1:1: refusing to overwrite") {
+		t.Errorf("init over an existing file exited %d and left %q:\n%s", code, got, stderr)
+	}
+	if code, _, stderr := nadir("init", "NoSuchFunc"); code != 2 || !strings.Contains(stderr, "objective NoSuchFunc: no such function") {
+		t.Errorf("init of a missing objective exited %d:\n%s", code, stderr)
+	}
+	if _, err := os.Stat("no_such_func.toml"); err == nil {
+		t.Errorf("a failed init left a file behind")
+	}
+}

@@ -1,0 +1,147 @@
+package gen
+
+import (
+	"fmt"
+	"go/types"
+	"io"
+	"path/filepath"
+	"strings"
+
+	"github.com/nadir-opt/nadir/rules"
+)
+
+// WriteStarter writes a starter spec for the objective ref ("Func" or
+// "Type.Method") of the Go package in dir: every key present, with its
+// default and a one-line comment, ready for `nadir gen`. A gradient named
+// like the objective plus "Grad" or "Gradient" that fits is proposed as
+// the analytic one, and a New<Type> function as the instance.
+func WriteStarter(w io.Writer, dir, ref string) error {
+	var probs Problems
+	at := Pos{File: displayPath(dir), Line: 1, Col: 1}
+	if !validReference(ref) {
+		return Problems{{at, fmt.Sprintf("objective %q is not \"Func\" or \"Type.Method\"", ref)}}
+	}
+	if msg := packageDirProblem(dir); msg != "" {
+		return Problems{{at, msg}}
+	}
+	lp := loadPackage(dir, &probs)
+	if err := probs.Err(); err != nil {
+		return err
+	}
+	if lp == nil {
+		return Problems{{at, "no loadable Go package in " + displayPath(dir)}}
+	}
+	fn, recvType := lp.lookupFunc(ref, nil, at, "objective", &probs)
+	if fn == nil {
+		return probs.Err()
+	}
+	var shape Shape
+	sig := fn.Type().(*types.Signature)
+	if !lp.objectiveShape(sig, &shape) {
+		return Problems{{lp.position(fn.Pos()), fmt.Sprintf("objective %s has signature %s; %s", ref, signatureText(sig), acceptedObjectives)}}
+	}
+	dim := shape.Dim
+	if shape.Arg == ArgSlice {
+		dim = 2
+	}
+
+	// An analytic gradient named after the objective, when one fits.
+	m := &Minimizer{Derivative: "analytic"}
+	gradient := ""
+	for _, suffix := range []string{"Grad", "Gradient"} {
+		m.Gradient = fn.Name() + suffix
+		if recvType != nil {
+			m.Gradient = recvType.Obj().Name() + "." + m.Gradient
+		}
+		var scratch Problems
+		trial := shape
+		trial.Dim = dim
+		lp.resolveGradient(m, &trial, recvType, at, &scratch)
+		if len(scratch) == 0 && trial.Gradient != "" {
+			gradient = m.Gradient
+			break
+		}
+	}
+	instance := ""
+	if recvType != nil {
+		name := "New" + recvType.Obj().Name()
+		m := &Minimizer{Instance: name}
+		var scratch Problems
+		trial := shape
+		lp.resolveInstance(m, &trial, recvType, func(string) Pos { return at }, &positions{keys: map[string]Pos{}}, &scratch)
+		if len(scratch) == 0 && trial.Instance.Name != "" {
+			instance = name
+		}
+	}
+
+	base := fn.Name()
+	if recvType != nil {
+		base = recvType.Obj().Name() + fn.Name()
+	}
+	name := "Minimize" + upperFirst(base)
+	var b strings.Builder
+	// kv writes "key = value" with its comment aligned; commented-out keys
+	// start with "# ".
+	kv := func(key, value, comment string) {
+		entry := key + " = " + value
+		fmt.Fprintf(&b, "%-30s # %s\n", entry, comment)
+	}
+	fmt.Fprintf(&b, "# Starter spec for %s, written by `nadir init`: every key with its\n", ref)
+	b.WriteString("# default and what it means (`nadir rules` explains each choice).\n")
+	b.WriteString("# Replace start with a typical point, then run `nadir gen` on this file.\n\n")
+	b.WriteString("[[minimizer]]\n")
+	kv("name", fmt.Sprintf("%q", name), "exported name of the generated minimizer")
+	kv("objective", fmt.Sprintf("%q", ref), signatureText(sig))
+	if gradient != "" {
+		kv("derivative", `"analytic"`, `"analytic" | "forward" | "central"`)
+		kv("gradient", fmt.Sprintf("%q", gradient), "found beside the objective; the generated test checks it")
+	} else {
+		kv("derivative", fmt.Sprintf("%q", rules.DefaultDerivative), `"analytic" (then set gradient) | "forward" | "central"`)
+	}
+	kv("direction", fmt.Sprintf("%q", rules.DefaultDirection), `"steepest" | "bfgs" | "lbfgs" | "cg"`)
+	kv("# memory", fmt.Sprint(rules.Memory.Default), "lbfgs only: correction pairs kept, "+rules.Memory.Range())
+	if shape.Scalar() {
+		kv("start", "0.0", "a typical starting point: replace with yours")
+	} else {
+		kv("start", "["+strings.TrimSuffix(strings.Repeat("0.0, ", dim), ", ")+"]", "a typical starting point: replace with yours")
+	}
+	if shape.Arg == ArgSlice {
+		kv("dim", fmt.Sprint(dim), "the objective takes a slice: the number of unknowns")
+	}
+	switch {
+	case instance != "":
+		kv("instance", fmt.Sprintf("%q", instance), "the receiver the generated tests use")
+	case recvType != nil:
+		kv("# instance", `""`, "package-level variable or func() giving the receiver (default: zero value)")
+	}
+	kv("# output", fmt.Sprintf("%q", snakeCase(name)+"_min.go"), "the default file name, beside the objective")
+	b.WriteString("\n[minimizer.step]\n")
+	kv("rule", fmt.Sprintf("%q", rules.DefaultStepRule), `"fixed" | "decrease" | "armijo" | "wolfe" | "strong-wolfe"`)
+	for _, p := range []rules.Param{rules.Initial, rules.Shrink, rules.Decrease, rules.Trials} {
+		kv(p.Key, paramValue(p, p.Default), p.Range()+": "+p.Doc)
+	}
+	kv("# curvature", "0.9", "wolfe rules only: c2 in (decrease, 1); 0.1 with direction \"cg\"")
+	kv("# interpolate", "false", "decrease and armijo: trials by safeguarded interpolation")
+	b.WriteString("\n[minimizer.stop]\n")
+	for _, p := range []rules.Param{rules.StopGradient, rules.StopStep, rules.StopIterations, rules.StopEvaluations} {
+		kv(p.Key, paramValue(p, rules.StopDefault(p, shape.Elem)), p.Doc)
+	}
+	b.WriteString("\n# [minimizer.expect]            # optional: the generated test asserts this minimizer\n")
+	b.WriteString("# x = ...\n# tolerance = 1e-6\n")
+	_, err := io.WriteString(w, b.String())
+	return err
+}
+
+// paramValue renders a parameter's value as TOML: whole numbers for
+// integer parameters, floats that read back exactly otherwise.
+func paramValue(p rules.Param, v float64) string {
+	if p.Integer {
+		return fmt.Sprint(int64(v))
+	}
+	return formatFloat(v)
+}
+
+// StarterPath is the default file name of `nadir init` for an objective.
+func StarterPath(ref string) string {
+	return filepath.Join(".", snakeCase(strings.ReplaceAll(ref, ".", ""))+".toml")
+}
