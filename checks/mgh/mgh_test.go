@@ -1,0 +1,389 @@
+package mgh
+
+import (
+	"bytes"
+	"flag"
+	"fmt"
+	"math"
+	"os"
+	"runtime"
+	"sort"
+	"strings"
+	"testing"
+
+	"gonum.org/v1/gonum/optimize/functions"
+)
+
+var update = flag.Bool("update", false, "rewrite testdata/results.md from this run")
+
+const resultsFile = "testdata/results.md"
+
+// outcome is one run of a generated minimizer, whatever its result type;
+// runs_test.go (rendered by ../regen) builds it.
+type outcome struct {
+	X           []float64
+	F           float64
+	Iterations  int
+	Evaluations int
+	Status      string
+	Converged   bool
+}
+
+// fTol is the tolerance on the final value: |f − f*| ≤ fTol·max(1, |f*|)
+// for the recorded minimum matched. 1e-10 is common practice for a run
+// stopped at ‖∇f‖∞ ≤ 1e-8 (nadir's default gradient limit): f − f* is
+// second order in x − x*.
+const fTol = 1e-10
+
+// expectation is what a run of one problem must reach: x within xTol of
+// one of the recorded minimizers, componentwise relative to
+// max(1, |x*ᵢ|), with f within fTol of that minimizer's value.
+//
+// xTol follows one rule: the stop test ‖∇f‖∞ ≤ 1e-8 pins x only to the
+// first-order bound ‖x − x*‖₂ ≤ √n·1e-8/λ_min, λ_min the smallest
+// eigenvalue of ∇²f(x*); xTol is the power of ten at or above ten times that
+// bound (the ten covers runs stopped by the step test and central
+// differences' gradient error), at least 1e-6 and at most 1e-1. Past 1e-1
+// the gradient test does not pin x and the f check carries the assertion.
+// Each λ_min below was computed for this check from central differences of
+// gonum's Grad at the recorded x* (gonum.org/v1/gonum/mat EigenSym).
+type expectation struct {
+	minima []functions.Minimum
+	xTol   float64
+	// onFamily, when set, also accepts x on a recorded continuum of
+	// minimizers (Box 3-D's line).
+	onFamily func(x []float64, tol float64) bool
+}
+
+// recorded returns the minima functions.go records for dimension n.
+func recorded(f interface{ Minima() []functions.Minimum }, n int) []functions.Minimum {
+	var ms []functions.Minimum
+	for _, m := range f.Minima() {
+		if len(m.X) == n {
+			ms = append(ms, m)
+		}
+	}
+	return ms
+}
+
+// expectations, by problem. Every minimum comes from functions.go
+// (gonum v0.17.0) Minima(); the MGH value beside it is from MGH 1981, §3,
+// the problem's "f = … at …" line (recalled from the paper, agreeing with
+// gonum's record to the digits MGH prints).
+var expectations = map[string]expectation{
+	// functions.go ExtendedRosenbrock.Minima: {1, 1}, F 0. MGH (1): f = 0 at (1, 1).
+	// λ_min 0.40 → bound 3.5e-8.
+	"Rosenbrock": {recorded(functions.ExtendedRosenbrock{}, 2), 1e-6, nil},
+	// functions.go PowellBadlyScaled.Minima: {1.0981593296997149e-05, 9.106146739867375}, F 0.
+	// MGH (3): f = 0 at (1.098…e-5, 9.106…). λ_min 2.4e-8, λ_max 1.7e10 → bound 0.6: capped.
+	"PowellBadlyScaled": {recorded(functions.PowellBadlyScaled{}, 2), 1e-1, nil},
+	// functions.go BrownBadlyScaled.Minima: {1e6, 2e-6}, F 0. MGH (4): f = 0 at (1e6, 2e-6).
+	// λ_min 2 → bound 7e-9.
+	"BrownBadlyScaled": {recorded(functions.BrownBadlyScaled{}, 2), 1e-6, nil},
+	// functions.go Beale.Minima: {3, 0.5}, F 0. MGH (5): f = 0 at (3, 0.5). λ_min 0.30 → bound 4.7e-8.
+	"Beale": {recorded(functions.Beale{}, 2), 1e-6, nil},
+	// functions.go HelicalValley.Minima: {1, 0, 0}, F 0. MGH (7): f = 0 at (1, 0, 0).
+	// λ_min 1.4 → bound 1.2e-8.
+	"HelicalValley": {recorded(functions.HelicalValley{}, 3), 1e-6, nil},
+	// functions.go Gaussian.Minima: {0.398956137837997, 1.0000190844805048, 0}, F 1.12793276961912e-08.
+	// MGH (9): f = 1.12793…e-8. λ_min 0.14 → bound 1.2e-7.
+	"Gaussian": {recorded(functions.Gaussian{}, 3), 1e-5, nil},
+	// functions.go GulfResearchAndDevelopment.Minima: {50, 25, 1.5}, F 0, and two
+	// local minima with F 32.8345. MGH (11): f = 0 at (50, 25, 1.5).
+	// λ_min 1.4e-5 → bound 1.3e-3.
+	"GulfRD": {recorded(functions.GulfResearchAndDevelopment{}, 3), 1e-1, nil},
+	// functions.go Box3D.Minima: {1, 10, 1}, {10, 1, −1}, F 0, and "any point at the
+	// line {a, a, 0}", F 0. MGH (12): f = 0 at (1, 10, 1), (10, 1, −1) and wherever
+	// x₁ = x₂ and x₃ = 0. λ_min 9.1e-4 at the isolated minima → bound 1.9e-5.
+	"Box3D": {recorded(functions.Box3D{}, 3), 1e-3, func(x []float64, tol float64) bool {
+		return math.Abs(x[0]-x[1]) <= tol*math.Max(1, math.Abs(x[0])) && math.Abs(x[2]) <= tol
+	}},
+	// functions.go ExtendedPowellSingular.Minima: {0, 0, 0, 0}, F 0. MGH (13): f = 0 at
+	// the origin. ∇²f(x*) is singular (λ_min 1.9e-11 is rounding): capped.
+	"PowellSingular": {recorded(functions.ExtendedPowellSingular{}, 4), 1e-1, nil},
+	// functions.go Wood.Minima: {1, 1, 1, 1}, F 0. MGH (14): f = 0 at (1, 1, 1, 1).
+	// λ_min 0.72 → bound 2.8e-8.
+	"Wood": {recorded(functions.Wood{}, 4), 1e-6, nil},
+	// functions.go BrownAndDennis.Minima: {-11.594439904762162, 13.203630051207202,
+	// -0.4034394881768612, 0.2367787744557347}, F 85822.20162635634. MGH (16):
+	// f = 85822.2… λ_min 1.2e3 → bound 1.6e-11.
+	"BrownDennis": {recorded(functions.BrownAndDennis{}, 4), 1e-6, nil},
+	// functions.go BiggsEXP6.Minima: {1, 10, 1, 5, 4, 3}, F 0; {1.7114…, 17.683…,
+	// 1.1631…, 5.1865…, 1.7114…, 1.1631…}, F 0.005655649925499929; and a
+	// limit with x₂ → ∞, x₄ → −∞, F 0.306366772624790. MGH (18): f = 0 at
+	// (1, 10, 1, 5, 4, 3) and f = 5.65565…e-3. Added here: (4, 10, 3, 5, 1, 1),
+	// the recorded global minimizer with the model's first and third terms
+	// x₃e^(−x₁t) and x₆e^(−x₅t) swapped, which leaves every residual, so
+	// f = 0, unchanged. λ_min 9.4e-6 at the global minimum → bound 2.6e-3.
+	// (At the recorded F 0.00566 point, where x₁ = x₅ and x₃ = x₆, ∇²f has a
+	// negative eigenvalue ≈ −0.0098: it is a stationary point that runs from
+	// the standard start, which has x₁ = x₅ and x₃ = x₆ too, stay in.)
+	"BiggsEXP6": {append(recorded(functions.BiggsEXP6{}, 6),
+		functions.Minimum{X: []float64{4, 10, 3, 5, 1, 1}, F: 0, Global: true}), 1e-1, nil},
+	// functions.go Watson.Minima: {-0.01572508644590686, 1.012434869244884, …}, F
+	// 0.0022876700535523838 (n = 6). MGH (20): f = 2.28767…e-3 for n = 6.
+	// λ_min 2.8e-3 → bound 8.7e-6.
+	"Watson6": {recorded(functions.Watson{}, 6), 1e-4, nil},
+	// functions.go Watson.Minima: {-1.5307036521992127e-05, 0.9997897039319495, …}, F
+	// 1.399760138096796e-06 (n = 9). MGH (20): f = 1.39976…e-6 for n = 9.
+	// λ_min 3.2e-7 → bound 0.095: capped.
+	"Watson9": {recorded(functions.Watson{}, 9), 1e-1, nil},
+	// functions.go PenaltyI.Minima: {0.2500074995875379 ×4}, F 2.2499775008999372e-05.
+	// MGH (23): f = 2.24997…e-5 for n = 4. λ_min 8.0e-5 → bound 2.5e-4.
+	"PenaltyI4": {recorded(functions.PenaltyI{}, 4), 1e-2, nil},
+	// functions.go PenaltyI.Minima: {0.15812230111311634 ×10}, F 7.087651467090369e-05.
+	// MGH (23): f = 7.08765…e-5 for n = 10. λ_min 1.3e-4 → bound 2.5e-4.
+	"PenaltyI10": {recorded(functions.PenaltyI{}, 10), 1e-2, nil},
+	// functions.go PenaltyII.Minima: {0.19999933335, 0.19131670128566283, 0.4801014860897,
+	// 0.5188454026659}, F 9.376293007355449e-06. MGH (24): f = 9.37629…e-6 for n = 4.
+	// λ_min 3.1e-6 → bound 6.5e-3.
+	"PenaltyII4": {recorded(functions.PenaltyII{}, 4), 1e-1, nil},
+	// functions.go PenaltyII.Minima: {0.19998360520892217, 0.010350644318663525, …}, F
+	// 0.00029366053745674594. MGH (24): f = 2.93660…e-4 for n = 10.
+	// λ_min 1.9e-5 → bound 1.7e-3.
+	"PenaltyII10": {recorded(functions.PenaltyII{}, 10), 1e-1, nil},
+	// functions.go VariablyDimensioned.Minima: {1 ×10}, F 0. MGH (25): f = 0 at (1, …, 1).
+	// λ_min 2 → bound 1.6e-8.
+	"VariablyDimensioned10": {recorded(functions.VariablyDimensioned{}, 10), 1e-6, nil},
+	// functions.go Trigonometric.Minima: {0.04296456438227447, …}, F 0, and {0.05515090434047145,
+	// …}, F 2.795056121876575e-05. MGH (26): f = 0. λ_min 0.063 at the second → bound 5.1e-7.
+	"Trigonometric10": {recorded(functions.Trigonometric{}, 10), 1e-5, nil},
+}
+
+// exclusion is a combination that legitimately fails the check: it is
+// still run and recorded in the results table, and the test fails if it
+// starts to pass (so the table does not go stale). Its generated
+// Test…Converges is skipped when it does not converge (see TestMain).
+type exclusion struct {
+	why    string
+	source string
+}
+
+var exclusions = map[string]exclusion{
+	"PowellBadlyScaledCGAnalytic": {
+		"PR+ CG zigzags down the curved valley; nadir's step test (‖Δx‖∞ ≤ 1e-14·(‖x‖∞ + 1)) fires with x₂ ≈ 8.2 setting the scale while x₁ ≈ 1.2e-5 still moves, ‖∇f‖∞ ≈ 2e-4, f ≈ 2.8e-8 ≫ 0",
+		"MGH (3) is badly scaled by design; ∇²f(x*) has λ from 2.4e-8 to 1.7e10 (computed here); functions.go: \"very flat near the minimum\"",
+	},
+	"PowellBadlyScaledCGCentral": {
+		"as PowellBadlyScaledCGAnalytic: the step test stops PR+ CG at f ≈ 5.4e-8 in the valley",
+		"MGH (3) is badly scaled by design; functions.go: \"very flat near the minimum\"",
+	},
+	"Watson9LBFGSAnalytic": {
+		"out of iterations at 5000 (f = 3.4e-6); with the limits raised to 10⁶ iterations L-BFGS (5 pairs) meets ‖∇f‖∞ ≤ 1e-8 after 17 376 iterations",
+		"functions.go Watson: \"For dim == 9, the problem of minimizing the function is very ill conditioned\"; λ_min/λ_max of ∇²f(x*) ≈ 3.2e-7/539 (computed here)",
+	},
+	"Watson9LBFGSCentral": {
+		"out of iterations at 5000 (f = 1.5e-6); with the limits raised to 10⁶ iterations it stops on the step test after 6 555 iterations at f = 1.40005e-6, 2.9e-10 above f*",
+		"functions.go Watson: \"For dim == 9, the problem … is very ill conditioned\"; central differences' gradient error, O(u^(2/3)) (Nocedal & Wright 2006, §8.1)",
+	},
+	"Watson9CGAnalytic": {
+		"out of iterations at 5000 (f = 3.5e-6); with the limits raised to 10⁶ iterations PR+ CG stops on the step test after 27 935 iterations at f = 1.40237e-6, 2.6e-9 above f*",
+		"functions.go Watson: \"For dim == 9, the problem … is very ill conditioned\"; CG's rate degrades with the condition number (Nocedal & Wright 2006, §5.1)",
+	},
+	"Watson9CGCentral": {
+		"out of iterations at 5000 (f = 6.5e-6); with the limits raised to 10⁶ iterations PR+ CG stops on the step test after 92 235 iterations at f = 1.44089e-6, 4.1e-8 above f*",
+		"functions.go Watson: \"For dim == 9, the problem … is very ill conditioned\"",
+	},
+}
+
+// TestMain skips the generated Test…Converges of each excluded combination
+// whose run does not converge: nadir's generated test asserts convergence
+// from the spec's start unconditionally, and no spec key says that a run is
+// expected to stop on a limit. TestPublishedMinima still runs and records
+// these combinations.
+func TestMain(m *testing.M) {
+	flag.Parse()
+	var names []string
+	for name := range exclusions {
+		run, ok := runs[name]
+		if !ok {
+			continue // TestPublishedMinima reports the stale exclusion
+		}
+		if o := run(problemOf(name).Start); !o.Converged {
+			names = append(names, name)
+		}
+	}
+	sort.Strings(names)
+	if len(names) > 0 {
+		skip := "^Test(" + strings.Join(names, "|") + ")Converges$"
+		if old := flag.Lookup("test.skip").Value.String(); old != "" {
+			skip = old + "|" + skip
+		}
+		flag.Set("test.skip", skip)
+	}
+	os.Exit(m.Run())
+}
+
+// problemOf finds the problem a generated minimizer's name belongs to.
+func problemOf(name string) Problem {
+	for _, p := range Problems {
+		for _, dir := range Directions {
+			for _, der := range Derivatives {
+				if MinimizerName(p, dir, der) == name {
+					return p
+				}
+			}
+		}
+	}
+	return Problem{}
+}
+
+// reaches reports whether o is at one of e's recorded minima, and which.
+func reaches(e expectation, o outcome) (functions.Minimum, bool) {
+	for _, m := range e.minima {
+		near := true
+		for i := range m.X {
+			if math.Abs(o.X[i]-m.X[i]) > e.xTol*math.Max(1, math.Abs(m.X[i])) {
+				near = false
+			}
+		}
+		if near && math.Abs(o.F-m.F) <= fTol*math.Max(1, math.Abs(m.F)) {
+			return m, true
+		}
+	}
+	if e.onFamily != nil && e.onFamily(o.X, e.xTol) && math.Abs(o.F) <= fTol {
+		return functions.Minimum{X: o.X, F: 0}, true
+	}
+	return functions.Minimum{}, false
+}
+
+// TestPublishedMinima runs every generated minimizer from MGH's start and
+// asks for convergence to a recorded minimum; it writes (with -update) or
+// compares the results table.
+func TestPublishedMinima(t *testing.T) {
+	var table bytes.Buffer
+	table.WriteString(resultsHeader)
+	seen := map[string]bool{}
+	for _, p := range Problems {
+		e, ok := expectations[p.Name]
+		if !ok || len(e.minima) == 0 {
+			t.Fatalf("%s: no recorded minimum", p.Name)
+		}
+		for _, dir := range Directions {
+			for _, der := range Derivatives {
+				name := MinimizerName(p, dir, der)
+				seen[name] = true
+				o := runs[name](p.Start)
+				// The reported f must be the objective at the reported x.
+				if f := evaluate(p, o.X); f != o.F {
+					t.Errorf("%s: F = %v but the objective at X is %v", name, o.F, f)
+				}
+				_, atMinimum := reaches(e, o)
+				pass := o.Converged && atMinimum
+				check := "ok"
+				ex, excluded := exclusions[name]
+				switch {
+				case excluded && pass:
+					t.Errorf("%s is excluded (%s) but now passes: remove it from exclusions", name, ex.why)
+				case excluded:
+					check = "excluded"
+				case !o.Converged:
+					t.Errorf("%s: status %s after %d iterations, %d evaluations; f = %g, x = %v", name, o.Status, o.Iterations, o.Evaluations, o.F, o.X)
+					check = "FAIL"
+				case !atMinimum:
+					t.Errorf("%s: %s at f = %.17g, x = %v: no recorded minimum within x tol %g, f tol %g", name, o.Status, o.F, o.X, e.xTol, fTol)
+					check = "FAIL"
+				}
+				fmt.Fprintf(&table, "| %s (%d) | %d | %s | %s | %s | %d | %d | %.6g | %s |\n",
+					p.Name, p.MGH, p.N, dir, der, o.Status, o.Iterations, o.Evaluations, o.F, check)
+			}
+		}
+	}
+	for name := range exclusions {
+		if !seen[name] {
+			t.Errorf("exclusion %s names no generated minimizer", name)
+		}
+	}
+	table.WriteString(exclusionsSection())
+	compareResults(t, table.Bytes())
+}
+
+// evaluate calls gonum's Func at x, the reference for F.
+func evaluate(p Problem, x []float64) float64 {
+	f := map[string]interface{ Func([]float64) float64 }{
+		"Rosenbrock": functions.ExtendedRosenbrock{}, "PowellBadlyScaled": functions.PowellBadlyScaled{},
+		"BrownBadlyScaled": functions.BrownBadlyScaled{}, "Beale": functions.Beale{},
+		"HelicalValley": functions.HelicalValley{}, "Gaussian": functions.Gaussian{},
+		"GulfRD": functions.GulfResearchAndDevelopment{}, "Box3D": functions.Box3D{},
+		"PowellSingular": functions.ExtendedPowellSingular{}, "Wood": functions.Wood{},
+		"BrownDennis": functions.BrownAndDennis{}, "BiggsEXP6": functions.BiggsEXP6{},
+		"Watson6": functions.Watson{}, "Watson9": functions.Watson{},
+		"PenaltyI4": functions.PenaltyI{}, "PenaltyI10": functions.PenaltyI{},
+		"PenaltyII4": functions.PenaltyII{}, "PenaltyII10": functions.PenaltyII{},
+		"VariablyDimensioned10": functions.VariablyDimensioned{}, "Trigonometric10": functions.Trigonometric{},
+	}[p.Name]
+	return f.Func(x)
+}
+
+const resultsHeader = `# MGH test set: results of nadir's generated minimizers
+
+Written by ` + "`go test ./mgh -update`" + ` in the checks module (recorded on linux/amd64;
+compared byte for byte there). Each run starts at the problem's standard
+start; bfgs and lbfgs (5 pairs) use the Wolfe rule (c1 = 1e-4, c2 = 0.9), cg
+(PR+) the strong Wolfe rule (c1 = 1e-4, c2 = 0.1); stop at ‖∇f‖∞ ≤ 1e-8 or a
+step ≤ 1e-14·(‖x‖∞ + 1), or after 5000 iterations or 200000 evaluations.
+Evaluations count objective calls, finite differences included. "problem"
+gives the problem number in Moré, Garbow & Hillstrom, ACM TOMS 7(1), 1981.
+
+| problem | n | direction | derivative | status | iterations | evaluations | final f | check |
+| --- | --- | --- | --- | --- | --- | --- | --- | --- |
+`
+
+func exclusionsSection() string {
+	var names []string
+	for name := range exclusions {
+		names = append(names, name)
+	}
+	sort.Strings(names)
+	var b strings.Builder
+	b.WriteString("\n## Exclusions\n\nRun and recorded above, not asserted.\n\n| minimizer | why | source of the difficulty |\n| --- | --- | --- |\n")
+	for _, name := range names {
+		fmt.Fprintf(&b, "| %s | %s | %s |\n", name, exclusions[name].why, exclusions[name].source)
+	}
+	return b.String()
+}
+
+// compareResults writes the table with -update; otherwise it compares it
+// with the committed one byte for byte on amd64, where it was recorded
+// (other GOARCHes may fuse multiply-adds and take other paths).
+func compareResults(t *testing.T, got []byte) {
+	t.Helper()
+	if *update {
+		if err := os.WriteFile(resultsFile, got, 0o644); err != nil {
+			t.Fatal(err)
+		}
+		return
+	}
+	want, err := os.ReadFile(resultsFile)
+	if err != nil {
+		t.Fatalf("%v (run `go test ./mgh -update` to write it)", err)
+	}
+	if bytes.Equal(got, want) {
+		return
+	}
+	if runtime.GOARCH != "amd64" {
+		t.Logf("%s differs on %s; it is compared on amd64 only", resultsFile, runtime.GOARCH)
+		return
+	}
+	t.Errorf("%s is stale (run `go test ./mgh -update` after review):\n%s", resultsFile, lineDiff(want, got))
+}
+
+// lineDiff lists the lines that differ, with their line numbers.
+func lineDiff(want, got []byte) string {
+	w := strings.Split(string(want), "\n")
+	g := strings.Split(string(got), "\n")
+	var b strings.Builder
+	for i := 0; i < len(w) || i < len(g); i++ {
+		var a, c string
+		if i < len(w) {
+			a = w[i]
+		}
+		if i < len(g) {
+			c = g[i]
+		}
+		if a != c {
+			fmt.Fprintf(&b, "line %d:\n- %s\n+ %s\n", i+1, a, c)
+		}
+	}
+	return b.String()
+}
