@@ -19,17 +19,19 @@ var statuses = []statusInfo{
 	{"statusGradientSmall", "GradientSmall", "gradient small", true,
 		"the largest gradient component fell to the gradient limit: converged"},
 	{"statusStepTiny", "StepTiny", "step tiny", true,
-		"the last step was at most the step limit relative to ‖x‖∞ + 1: converged"},
+		"every component of the last step taken was at most the step limit times |xᵢ| + 1: converged"},
 	{"statusOutOfIterations", "OutOfIterations", "out of iterations", false,
 		"the iteration limit came first"},
 	{"statusOutOfEvaluations", "OutOfEvaluations", "out of evaluations", false,
 		"the next objective call would have exceeded the evaluation cap"},
 	{"statusNoAcceptableStep", "NoAcceptableStep", "no acceptable step", false,
-		"no trial of the line search met the step rule within its trials"},
+		"no trial of the line search met the step rule at a finite point within its trials"},
 	{"statusNonFiniteStart", "NonFiniteStart", "non-finite start", false,
 		"x0 or the objective at x0 is NaN or ±Inf"},
 	{"statusNonFiniteGradient", "NonFiniteGradient", "non-finite gradient", false,
 		"a gradient component became NaN or ±Inf"},
+	{"statusNoDecrease", "NoDecrease", "no decrease", false,
+		"no step longer than the step limit decreased f: X may be a minimizer that the gradient limit cannot confirm (finite differences are noisier than the limit) or the gradient may be wrong"},
 }
 
 // tunable is one constant the kernels read, emitted from the plan.

@@ -143,7 +143,7 @@ func emitTypes(f *jen.File, p *Plan) {
 	f.Commentf("%sLimits are the stop limits of one run. Pass them to %sWithLimits to change them at run time; %sDefaultLimits returns the spec's.", name, name, name)
 	f.Type().Id(name+"Limits").Struct(
 		jen.Id("Gradient").Id(elem).Comment("stop when the largest |∂f/∂xᵢ| is at most this"),
-		jen.Id("Step").Id(elem).Comment("stop when the largest |Δxᵢ| is at most this·(‖x‖∞ + 1)"),
+		jen.Id("Step").Id(elem).Comment("stop when every |Δxᵢ| is at most this·(|xᵢ| + 1)"),
 		jen.Id("Iterations").Int().Comment("most accepted steps"),
 		jen.Id("Evaluations").Int().Comment("hard cap on objective calls, finite differences included; never exceeded"),
 	)
@@ -245,7 +245,7 @@ func entryDoc(p *Plan) []string {
 		params = append(params, fmt.Sprintf("memory %d pairs", m.Memory))
 	}
 	lines = append(lines, "Constants: "+strings.Join(params, ", ")+".")
-	lines = append(lines, fmt.Sprintf("Default stop: largest gradient component ≤ %s, step ≤ %s·(‖x‖∞ + 1), %d iterations, %d objective calls.",
+	lines = append(lines, fmt.Sprintf("Default stop: largest gradient component ≤ %s, every |Δxᵢ| ≤ %s·(|xᵢ| + 1), %d iterations, %d objective calls.",
 		formatFloat(p.Stop.Gradient), formatFloat(p.Stop.Step), p.Stop.Iterations, p.Stop.Evaluations))
 	worst, byIter := p.WorstCase()
 	perGradient := ""

@@ -251,6 +251,9 @@ func (lp *loadedPackage) resolve(spec *Spec, m *Minimizer, probs *Problems) (Sha
 		probs.add(ix.key(m.keyPrefix+".dim"), "dim is only for objectives that take a slice; %s fixes the dimension at %d", m.Objective, shape.Dim)
 	}
 
+	if shape.Dim > 0 {
+		checkStackSize(m, shape, ix, probs)
+	}
 	if m.Derivative == "analytic" {
 		lp.resolveGradient(m, &shape, recvType, at("gradient"), probs)
 	}
@@ -491,4 +494,43 @@ func (lp *loadedPackage) resolveInstance(m *Minimizer, shape *Shape, recvType *t
 
 func signatureText(sig *types.Signature) string {
 	return "func" + strings.TrimPrefix(types.TypeString(sig, func(*types.Package) string { return "" }), "func")
+}
+
+// maxStackVariable is the largest explicitly declared variable the Go
+// compiler keeps on the stack; larger ones move to the heap
+// (cmd/compile/internal/ir, MaxStackVarSize = 128 KiB, recalled from
+// memory and confirmed by the end-to-end escape check).
+const maxStackVariable = 128 << 10
+
+// checkStackSize refuses a minimizer whose largest variable would not fit
+// on the stack, since the generated code would then allocate.
+func checkStackSize(m *Minimizer, shape Shape, ix *positions, probs *Problems) {
+	size := 8
+	if shape.Elem == "float32" {
+		size = 4
+	}
+	vector := shape.Dim*size + 64 // a vector, or the outcome that holds one
+	state := 0                    // the direction's state
+	what := ""
+	switch m.Direction {
+	case "bfgs":
+		state = shape.Dim*shape.Dim*size + 8
+		what = fmt.Sprintf("direction \"bfgs\" keeps a %d×%d matrix of %s (%d bytes) in one variable", shape.Dim, shape.Dim, shape.Elem, state)
+	case "lbfgs":
+		state = 2*m.Memory*shape.Dim*size + m.Memory*size + 16
+		what = fmt.Sprintf("direction \"lbfgs\" with memory %d keeps %d vectors of %d %s (%d bytes) in one variable", m.Memory, 2*m.Memory, shape.Dim, shape.Elem, state)
+	case "cg":
+		state = 2*shape.Dim*size + 16
+		what = fmt.Sprintf("direction \"cg\" keeps 2 vectors of %d %s (%d bytes) in one variable", shape.Dim, shape.Elem, state)
+	}
+	switch {
+	case vector > maxStackVariable:
+		probs.add(ix.value(m.keyPrefix+".objective"), "%d unknowns of %s (%d bytes a vector) exceed the %d bytes Go keeps on the stack: the minimizer would allocate", shape.Dim, shape.Elem, vector, maxStackVariable)
+	case state > maxStackVariable:
+		hint := "use direction \"lbfgs\" or \"cg\""
+		if m.Direction == "lbfgs" {
+			hint = "lower memory or use direction \"cg\""
+		}
+		probs.add(ix.value(m.keyPrefix+".direction"), "%s, above the %d bytes Go keeps on the stack: the minimizer would allocate; %s", what, maxStackVariable, hint)
+	}
 }

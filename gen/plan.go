@@ -40,10 +40,10 @@ func newPlan(spec *Spec, m *Minimizer, shape Shape) *Plan {
 	p.Cost = rules.Cost(m.Derivative, shape.Dim)
 	p.Stop = m.Stop
 	if !m.stopSet["gradient"] {
-		p.Stop.Gradient = rules.StopDefault(rules.StopGradient, shape.Elem)
+		p.Stop.Gradient = rules.StopDefault(rules.StopGradient, shape.Elem, m.Derivative)
 	}
 	if !m.stopSet["step"] {
-		p.Stop.Step = rules.StopDefault(rules.StopStep, shape.Elem)
+		p.Stop.Step = rules.StopDefault(rules.StopStep, shape.Elem, m.Derivative)
 	}
 	return p
 }

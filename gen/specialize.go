@@ -36,7 +36,6 @@ type kernelSource struct {
 type unit struct {
 	name  string
 	decls []ast.Decl
-	file  *ast.File
 }
 
 var (
@@ -102,21 +101,31 @@ func parseKernels(src fs.FS) (*kernelSource, error) {
 				name = specNames(d.Specs[0])[0]
 				for _, s := range d.Specs {
 					for _, n := range specNames(s) {
-						ks.units[n] = ks.unitFor(name, f)
+						ks.units[n] = ks.unitFor(name)
 					}
 				}
 			}
-			u := ks.unitFor(name, f)
+			u := ks.unitFor(name)
 			u.decls = append(u.decls, d)
 		}
 	}
 	return ks, nil
 }
 
-func (ks *kernelSource) unitFor(name string, f *ast.File) *unit {
+// fileOf returns the file that declares d.
+func (ks *kernelSource) fileOf(d ast.Decl) *ast.File {
+	for _, f := range ks.files {
+		if f.Pos() <= d.Pos() && d.End() <= f.End() {
+			return f
+		}
+	}
+	return nil
+}
+
+func (ks *kernelSource) unitFor(name string) *unit {
 	u, ok := ks.units[name]
 	if !ok {
-		u = &unit{name: name, file: f}
+		u = &unit{name: name}
 		ks.units[name] = u
 		ks.order = append(ks.order, name)
 	}
@@ -236,9 +245,10 @@ func specialize(c kernelChoice) (*specializedKernels, error) {
 	for _, u := range reached {
 		for _, d := range u.decls {
 			own := declName(d)
+			comments := commentsWithin(ks.fileOf(d), d) // before renaming lengthens them
 			copyDecl := rw.rewrite(d)
-			rw.renameComments(copyDecl, own, u.file)
-			if err := printer.Fprint(&buf, ks.fset, &printer.CommentedNode{Node: copyDecl, Comments: commentsWithin(u.file, d)}); err != nil {
+			rw.renameComments(comments, own)
+			if err := printer.Fprint(&buf, ks.fset, &printer.CommentedNode{Node: copyDecl, Comments: comments}); err != nil {
 				return nil, err
 			}
 			buf.WriteString("\n\n")
@@ -496,12 +506,12 @@ var wordPattern = regexp.MustCompile(`[A-Za-z_][A-Za-z0-9_]*`)
 // thing. Plain words ("direction", "finite") are left alone unless they
 // open the declaration's doc comment as its own name; camelCase words are
 // always names.
-func (rw *rewriter) renameComments(d ast.Decl, own string, f *ast.File) {
+func (rw *rewriter) renameComments(comments []*ast.CommentGroup, own string) {
 	names := map[string]string{}
 	for o, n := range rw.newName {
 		names[o.Name()] = n
 	}
-	for _, cg := range commentsWithin(f, d) {
+	for _, cg := range comments {
 		for i, c := range cg.List {
 			first := i == 0
 			c.Text = wordPattern.ReplaceAllStringFunc(c.Text, func(w string) string {

@@ -92,7 +92,9 @@ func WriteStarter(w io.Writer, dir, ref string) error {
 	b.WriteString("[[minimizer]]\n")
 	kv("name", fmt.Sprintf("%q", name), "exported name of the generated minimizer")
 	kv("objective", fmt.Sprintf("%q", ref), signatureText(sig))
+	derivativeChoice := rules.DefaultDerivative
 	if gradient != "" {
+		derivativeChoice = "analytic"
 		kv("derivative", `"analytic"`, `"analytic" | "forward" | "central"`)
 		kv("gradient", fmt.Sprintf("%q", gradient), "found beside the objective; the generated test checks it")
 	} else {
@@ -124,7 +126,7 @@ func WriteStarter(w io.Writer, dir, ref string) error {
 	kv("# interpolate", "false", "decrease and armijo: trials by safeguarded interpolation")
 	b.WriteString("\n[minimizer.stop]\n")
 	for _, p := range []rules.Param{rules.StopGradient, rules.StopStep, rules.StopIterations, rules.StopEvaluations} {
-		kv(p.Key, paramValue(p, rules.StopDefault(p, shape.Elem)), p.Doc)
+		kv(p.Key, paramValue(p, rules.StopDefault(p, shape.Elem, derivativeChoice)), p.Doc)
 	}
 	b.WriteString("\n# [minimizer.expect]            # optional: the generated test asserts this minimizer\n")
 	b.WriteString("# x = ...\n# tolerance = 1e-6\n")

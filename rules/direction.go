@@ -58,24 +58,33 @@ func QuasiNewton(direction string) bool {
 // Stop limits; every minimizer reads all four.
 var (
 	StopGradient = Param{Key: "gradient", Default: 1e-8, Low: 0, High: math.Inf(1),
-		Doc: "stop when the largest |∂f/∂xᵢ| ≤ this; default 1e-8 for float64, 1e-4 for float32 (common practice)"}
+		Doc: "stop when the largest |∂f/∂xᵢ| ≤ this; default 1e-8 for float64 (1e-6 with forward differences), 1e-4 for float32 (1e-3 central, 1e-2 forward): above the differences' error, common practice"}
 	StopStep = Param{Key: "step", Default: 1e-14, Low: 0, High: math.Inf(1),
-		Doc: "stop when the largest |Δxᵢ| ≤ this·(‖x‖∞ + 1); default 1e-14 for float64, 1e-6 for float32 (common practice)"}
+		Doc: "stop when every |Δxᵢ| ≤ this·(|xᵢ| + 1); default 1e-14 for float64, 1e-6 for float32 (common practice)"}
 	StopIterations = Param{Key: "iterations", Default: 500, Low: 1, High: 1e9, Integer: true,
 		Doc: "most accepted steps"}
 	StopEvaluations = Param{Key: "evaluations", Default: 10000, Low: 1, High: 1e9, Integer: true,
 		Doc: "hard cap on objective calls, finite differences included; never exceeded"}
 )
 
-// StopDefault returns a stop limit's default for an element type.
-func StopDefault(p Param, elem string) float64 {
-	if elem == "float32" {
-		switch p.Key {
-		case "gradient":
-			return 1e-4
-		case "step":
-			return 1e-6
-		}
+// StopDefault returns a stop limit's default for an element type and
+// derivative source. The gradient limit sits well above the error of the
+// gradient, or no step could show progress near a minimizer: differences
+// err by about √u (forward) and u^(2/3) (central) relative to the scale of
+// f (Nocedal & Wright 2006, §8.1), so their limits are looser; the
+// factors are common practice for problems scaled near 1.
+func StopDefault(p Param, elem, derivative string) float64 {
+	switch {
+	case p.Key == "gradient":
+		return gradientDefaults[elem == "float32"][derivative]
+	case p.Key == "step" && elem == "float32":
+		return 1e-6
 	}
 	return p.Default
+}
+
+// gradientDefaults are the default gradient limits, by float32 and source.
+var gradientDefaults = map[bool]map[string]float64{
+	false: {"analytic": 1e-8, "central": 1e-8, "forward": 1e-6},
+	true:  {"analytic": 1e-4, "central": 1e-3, "forward": 1e-2},
 }

@@ -25,8 +25,8 @@ func decreaseSearch(recv *receiver, x *vec, fx elem, d *vec, slope, first, tiny 
 	t := first
 	var previous, fPrevious elem
 	for trial := 0; trial < stepTrials; trial++ {
-		if t <= tiny {
-			return lineResult{calls: trial, end: tinyOrExhausted(previous == 0 || finite(fPrevious))}
+		if trial > 0 && t <= tiny {
+			return lineResult{calls: trial, end: tinyOrExhausted(finite(fPrevious))}
 		}
 		if trial >= budget {
 			return lineResult{calls: trial, end: searchOutOfBudget}
@@ -58,8 +58,8 @@ func armijoSearch(recv *receiver, x *vec, fx elem, d *vec, slope, first, tiny el
 	t := first
 	var previous, fPrevious elem
 	for trial := 0; trial < stepTrials; trial++ {
-		if t <= tiny {
-			return lineResult{calls: trial, end: tinyOrExhausted(previous == 0 || finite(fPrevious))}
+		if trial > 0 && t <= tiny {
+			return lineResult{calls: trial, end: tinyOrExhausted(finite(fPrevious))}
 		}
 		if trial >= budget {
 			return lineResult{calls: trial, end: searchOutOfBudget}
@@ -140,10 +140,10 @@ func interpolatedTrial(fx, slope, t, ft, previous, fPrevious elem) elem {
 	return next
 }
 
-// tinyOrExhausted ends a search that has run below the step limit: x is
-// converged to the step limit when the last failure was a finite increase
-// of f, but a non-finite value says nothing about f near x, so the search
-// has simply failed.
+// tinyOrExhausted ends a search that has run below the step limit: no
+// decrease was found when the last failure was a finite value, but a
+// non-finite value says nothing about f near x, so the search has simply
+// failed.
 func tinyOrExhausted(lastFinite bool) searchEnd {
 	if lastFinite {
 		return searchTiny

@@ -30,7 +30,7 @@ func (s *cgDirection) reset() {
 func (s *cgDirection) compute(g, d *vec) {
 	var beta elem
 	if s.steps > 0 && s.steps < dim && s.squared > 0 {
-		beta = max(dot(g, &s.change)/s.squared, 0) // N&W eq. 5.45 (PR+)
+		beta = larger(dot(g, &s.change)/s.squared, 0) // N&W eq. 5.45 (PR+)
 	}
 	for i := range d {
 		d[i] = -g[i] + beta*s.previous[i] // N&W eq. 5.44

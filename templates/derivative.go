@@ -29,7 +29,7 @@ func forwardDifference(recv *receiver, x *vec, fx elem, g *vec) {
 	probe := *x
 	for i := range probe {
 		xi := probe[i]
-		h := forwardScale * max(1, abs(xi)) // N&W §8.1: h = √u·max(1,|x_i|)
+		h := forwardScale * larger(1, abs(xi)) // N&W §8.1: h = √u·max(1,|x_i|)
 		probe[i] = xi + h
 		h = probe[i] - xi // the step actually representable in elem
 		g[i] = (recv.objective(&probe) - fx) / h
@@ -47,7 +47,7 @@ func centralDifference(recv *receiver, x *vec, fx elem, g *vec) {
 	probe := *x
 	for i := range probe {
 		xi := probe[i]
-		h := centralScale * max(1, abs(xi)) // N&W §8.1: h = ∛u·max(1,|x_i|)
+		h := centralScale * larger(1, abs(xi)) // N&W §8.1: h = ∛u·max(1,|x_i|)
 		up := xi + h
 		down := xi - h
 		probe[i] = up

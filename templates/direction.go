@@ -69,13 +69,14 @@ func (s *direction) firstTrial(t, slope, now elem) elem {
 
 // curvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
 // update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
-// as (sᵀy)² > u·(sᵀs)(yᵀy) with u the unit roundoff, so that the updated
+// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
+// that float32 does not overflow, with u the unit roundoff, so that the updated
 // matrix stays positive definite and well conditioned (Nocedal & Wright
 // 2006, §6.1, condition 6.7; the relative threshold √u·‖s‖‖y‖ is from
 // Dennis & Schnabel 1983, Algorithm A9.4.1, recalled from memory).
 func curvatureSafe(s, y *vec) bool {
 	sy := dot(s, y)
-	return sy > 0 && sy*sy > unitRoundoff*dot(s, s)*dot(y, y)
+	return sy > 0 && (sy/dot(s, s))*(sy/dot(y, y)) > unitRoundoff
 }
 
 // scaledTrial is the first trial of steepest descent and conjugate

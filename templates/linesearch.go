@@ -7,7 +7,7 @@ const (
 	searchAccepted    searchEnd = iota // a step met the rule
 	searchExhausted                    // stepTrials trials met none
 	searchOutOfBudget                  // the evaluation cap came first
-	searchTiny                         // every step longer than tiny failed: x is converged to the step limit
+	searchTiny                         // every step longer than tiny failed to decrease f
 )
 
 // lineResult is what a line search reports to the kernel.
@@ -21,10 +21,13 @@ type lineResult struct {
 
 // lineSearch looks along d from x, where f(x) = fx and the slope
 // ∇f(x)ᵀd < 0, starting with the trial step first and spending at most
-// budget objective calls. Steps t ≤ tiny are below the step limit: a
-// search that would have to try one ends with searchTiny instead, since no
-// step the step test would accept can decrease f (the step-tolerance stop
-// of Dennis & Schnabel 1983, §7.2, recalled from memory). On acceptance xt
+// budget objective calls. Steps t ≤ tiny are below the step limit: after
+// at least one failed trial, a search that would have to try such a step
+// ends with searchTiny instead, since every step longer than the step
+// limit failed to decrease f. That is not convergence: x may be a
+// minimizer the gradient test cannot confirm (finite-difference noise), or
+// the gradient may be wrong (Dennis & Schnabel 1983, §7.2, keep this case
+// apart from the step test, recalled from memory). On acceptance xt
 // holds x + t·d (and gt its gradient when the result says so). It stands
 // in for the rule the spec chose; gen keeps only that one under this name.
 func lineSearch(recv *receiver, x *vec, fx elem, d *vec, slope, first, tiny elem, budget int, xt, gt *vec) lineResult {

@@ -516,9 +516,11 @@ func TestWolfeCallsWithDifferences(t *testing.T) {
 	}
 }
 
-// Every budget smaller than what a search needs ends it out of budget
-// without exceeding the budget, with gradients by analytic or by
-// differences; the full budget gives the same accepted step.
+// Every budget smaller than what a search needs ends it without exceeding
+// the budget, with gradients by analytic or by differences: out of budget
+// when no trial has met sufficient decrease yet, otherwise with the best
+// such trial, whose value and gradient were already paid for; the full
+// budget gives the same accepted step.
 func TestWolfeBudget(t *testing.T) {
 	fn := moreThuenteFunctions()[1] // concave-left from 1e-3: a long search
 	for _, source := range []int{sourceAnalytic, sourceForward} {
@@ -533,8 +535,20 @@ func TestWolfeBudget(t *testing.T) {
 			for budget := 0; budget < full.calls; budget++ {
 				recv := fn.alongFirstAxis()
 				res := wolfeSearch(recv, &x, fn.phi(0), &d, fn.slope(0), 1e-3, 0, budget, &xt, &gt)
-				if res.end != searchOutOfBudget || recv.calls > budget || res.calls != recv.calls {
-					t.Errorf("%s/%s budget %d of %d: end %d, %d calls, %d reported", sourceNames[source], ruleNames[rule], budget, full.calls, res.end, recv.calls, res.calls)
+				if recv.calls > budget || res.calls != recv.calls {
+					t.Errorf("%s/%s budget %d of %d: %d calls, %d reported", sourceNames[source], ruleNames[rule], budget, full.calls, recv.calls, res.calls)
+				}
+				switch res.end {
+				case searchOutOfBudget:
+				case searchAccepted:
+					// Sufficient decrease (N&W eq. 3.6a), with the value and
+					// the gradient of the accepted point handed back.
+					if !(res.step > 0) || fn.phi(res.step) > fn.phi(0)+stepDecrease*res.step*fn.slope(0) ||
+						res.value != fn.phi(res.step) || !res.gradient || xt[0] != res.step {
+						t.Errorf("%s/%s budget %d: accepted %+v, not a sufficient decrease", sourceNames[source], ruleNames[rule], budget, res)
+					}
+				default:
+					t.Errorf("%s/%s budget %d: end %d", sourceNames[source], ruleNames[rule], budget, res.end)
 				}
 			}
 			recv := fn.alongFirstAxis()
@@ -608,8 +622,10 @@ func TestWolfeNonFiniteTrials(t *testing.T) {
 				}
 			})
 		}
-		// No acceptable step: φ = −α is linear (φ' = −1 < c2·φ'(0)
-		// everywhere) until +Inf from α = 3, and +Inf everywhere.
+		// No step meets the curvature condition: φ = −α is linear
+		// (φ' = −1 < c2·φ'(0) everywhere) until +Inf from α = 3, where the
+		// search must end with its best sufficient decrease after all its
+		// trials; and +Inf everywhere, where it must give up.
 		policy{sourceAnalytic, kindBFGS, rule, backtrackShrink}.use(t)
 		for _, fn := range []lineFunction{
 			{"−α then +Inf",
@@ -634,9 +650,16 @@ func TestWolfeNonFiniteTrials(t *testing.T) {
 				x, d := vec{0, 0}, vec{1, 0}
 				var xt, gt vec
 				res := wolfeSearch(recv, &x, 0, &d, -1, first, 0, 1000, &xt, &gt)
-				if res.end != searchExhausted || res.calls != recv.calls || res.calls != stepTrials {
-					t.Errorf("%s/%s from %g: end %d after %d calls (objective saw %d), want exhausted after %d",
-						ruleNames[rule], fn.name, first, res.end, res.calls, recv.calls, stepTrials)
+				want := searchExhausted
+				if fn.name == "−α then +Inf" {
+					want = searchAccepted
+					if !(res.step > 0 && res.step < 3) || res.value != -res.step {
+						t.Errorf("%s/%s from %g: accepted step %g, value %g", ruleNames[rule], fn.name, first, res.step, res.value)
+					}
+				}
+				if res.end != want || res.calls != recv.calls || res.calls != stepTrials {
+					t.Errorf("%s/%s from %g: end %d after %d calls (objective saw %d), want %d after %d",
+						ruleNames[rule], fn.name, first, res.end, res.calls, recv.calls, want, stepTrials)
 				}
 			}
 		}

@@ -17,9 +17,9 @@ type outcome struct {
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
 //  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged);
+//     steps shorter than the step limit are left to try (no decrease);
 //  5. move, refresh the gradient, let the direction learn from the step;
-//  6. stop when the step is at most lim.Step·(‖x‖∞ + 1).
+//  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
 //
 // Before every objective call it checks that lim.Evaluations leaves room
 // for it, so the cap is never exceeded. A NaN or ±Inf at the start or in a
@@ -57,7 +57,7 @@ func minimize(recv *receiver, x0 vec, lim limits) outcome {
 			return out
 		}
 		if out.iterations > 0 {
-			if maxAbs(&s) <= lim.Step*(maxAbs(&x)+1) {
+			if stepWithin(&s, &x, lim.Step) {
 				out.status = statusStepTiny
 				return out
 			}
@@ -69,7 +69,7 @@ func minimize(recv *receiver, x0 vec, lim limits) outcome {
 		}
 		dir.compute(&g, &d)
 		now := dot(&g, &d)
-		if !(now < 0) {
+		if !(now < 0) || !finiteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
 			dir.compute(&g, &d)
 			now = dot(&g, &d)
@@ -78,7 +78,7 @@ func minimize(recv *receiver, x0 vec, lim limits) outcome {
 		if out.iterations > 0 {
 			first = dir.firstTrial(t, slope, now)
 		}
-		tiny := lim.Step * (maxAbs(&x) + 1) / maxAbs(&d) // steps t ≤ tiny pass the step test
+		tiny := tinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
 		found := lineSearch(recv, &x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt)
 		out.evaluations += found.calls
 		switch found.end {
@@ -88,13 +88,19 @@ func minimize(recv *receiver, x0 vec, lim limits) outcome {
 			out.status = statusNoAcceptableStep
 			return out
 		case searchTiny:
-			out.status = statusStepTiny
+			out.status = statusNoDecrease
+			return out
+		}
+		if !finiteVec(&xt) {
+			out.status = statusNoAcceptableStep // the accepted trial overflowed x
 			return out
 		}
 		if !found.gradient {
 			if out.evaluations+derivativeCost > lim.Evaluations {
-				out.x, out.f = xt, found.value // keep the better point even without its gradient
-				out.iterations++
+				if found.value < fx { // keep a better point even without its gradient
+					out.x, out.f = xt, found.value
+					out.iterations++
+				}
 				return out
 			}
 			derivative(recv, &xt, found.value, &gt)

@@ -43,6 +43,7 @@ const (
 	statusNoAcceptableStep
 	statusNonFiniteStart
 	statusNonFiniteGradient
+	statusNoDecrease
 )
 
 // limits stands in for the spec's run-time stop limits.

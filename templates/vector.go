@@ -18,6 +18,16 @@ func finiteVec(x *vec) bool {
 	return true
 }
 
+// larger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func larger(a, b elem) elem {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
 // abs returns |v|.
 func abs(v elem) elem {
 	if v < 0 {
@@ -70,4 +80,30 @@ func negate(out, x *vec) {
 // squareRoot returns √v.
 func squareRoot(v elem) elem {
 	return elem(math.Sqrt(float64(v)))
+}
+
+// stepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func stepWithin(s, x *vec, tol elem) bool {
+	for i := range s {
+		if !(abs(s[i]) <= tol*(abs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
+}
+
+// tinyStep returns the longest t for which the step t·d from x passes the
+// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+func tinyStep(x, d *vec, tol elem) elem {
+	tiny := elem(-1)
+	for i := range x {
+		if d[i] != 0 {
+			if t := tol * (abs(x[i]) + 1) / abs(d[i]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+	}
+	return tiny
 }

@@ -39,19 +39,17 @@ func wolfeSearch(recv *receiver, x *vec, fx elem, d *vec, slope, first, tiny ele
 	for trial := 0; trial < stepTrials; trial++ {
 		if bracketed && abs(high.step-low.step) <= tiny {
 			// The bracket is below the step limit: take low when it
-			// decreased f; else x is converged to the step limit, unless
-			// f was not finite there.
+			// decreased f; else no step decreased f, unless f was not
+			// finite there.
 			if low.step == 0 {
 				return lineResult{calls: calls, end: tinyOrExhausted(finite(high.value))}
 			}
-			moveTo(xt, x, low.step, d)
-			*gt = lowGradient
-			return lineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: searchAccepted}
-		}
-		if !bracketed && t <= tiny {
-			return lineResult{calls: calls, end: searchTiny}
+			return acceptLow(x, d, &low, &lowGradient, calls, xt, gt)
 		}
 		if calls >= budget {
+			if low.step > 0 {
+				return acceptLow(x, d, &low, &lowGradient, calls, xt, gt) // keep the decrease already paid for
+			}
 			return lineResult{calls: calls, end: searchOutOfBudget}
 		}
 		moveTo(xt, x, t, d)
@@ -62,6 +60,9 @@ func wolfeSearch(recv *receiver, x *vec, fx elem, d *vec, slope, first, tiny ele
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
 		} else {
 			if calls+derivativeCost > budget {
+				if low.step > 0 {
+					return acceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+				}
 				return lineResult{calls: calls, end: searchOutOfBudget}
 			}
 			derivative(recv, xt, current.value, gt)
@@ -86,7 +87,19 @@ func wolfeSearch(recv *receiver, x *vec, fx elem, d *vec, slope, first, tiny ele
 			t = expandTrial(&previous, &current)
 		}
 	}
+	if low.step > 0 {
+		return acceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+	}
 	return lineResult{calls: calls, end: searchExhausted}
+}
+
+// acceptLow ends a Wolfe search with its best trial, which met sufficient
+// decrease though not the curvature condition: the bracket collapsed, the
+// trials ran out or the budget did. Its gradient was kept in lowGradient.
+func acceptLow(x, d *vec, low *linePoint, lowGradient *vec, calls int, xt, gt *vec) lineResult {
+	moveTo(xt, x, low.step, d)
+	*gt = *lowGradient
+	return lineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: searchAccepted}
 }
 
 // curvatureMet applies the curvature condition of the spec's Wolfe rule
@@ -143,7 +156,16 @@ func expandTrial(previous, current *linePoint) elem {
 // clampBetween returns v limited to the interval with ends a and b, in
 // either order.
 func clampBetween(v, a, b elem) elem {
-	return max(min(a, b), min(max(a, b), v))
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
 }
 
 // modelMinimizer returns the minimizer of the cubic interpolating values

@@ -8,18 +8,20 @@ type CalibrateStatus uint8
 const (
 	// CalibrateGradientSmall: the largest gradient component fell to the gradient limit: converged.
 	CalibrateGradientSmall CalibrateStatus = iota + 1
-	// CalibrateStepTiny: the last step was at most the step limit relative to ‖x‖∞ + 1: converged.
+	// CalibrateStepTiny: every component of the last step taken was at most the step limit times |xᵢ| + 1: converged.
 	CalibrateStepTiny
 	// CalibrateOutOfIterations: the iteration limit came first.
 	CalibrateOutOfIterations
 	// CalibrateOutOfEvaluations: the next objective call would have exceeded the evaluation cap.
 	CalibrateOutOfEvaluations
-	// CalibrateNoAcceptableStep: no trial of the line search met the step rule within its trials.
+	// CalibrateNoAcceptableStep: no trial of the line search met the step rule at a finite point within its trials.
 	CalibrateNoAcceptableStep
 	// CalibrateNonFiniteStart: x0 or the objective at x0 is NaN or ±Inf.
 	CalibrateNonFiniteStart
 	// CalibrateNonFiniteGradient: a gradient component became NaN or ±Inf.
 	CalibrateNonFiniteGradient
+	// CalibrateNoDecrease: no step longer than the step limit decreased f: X may be a minimizer that the gradient limit cannot confirm (finite differences are noisier than the limit) or the gradient may be wrong.
+	CalibrateNoDecrease
 )
 
 // String describes the status in a few words.
@@ -39,6 +41,8 @@ func (s CalibrateStatus) String() string {
 		return "non-finite start"
 	case CalibrateNonFiniteGradient:
 		return "non-finite gradient"
+	case CalibrateNoDecrease:
+		return "no decrease"
 	default:
 		return "unknown status"
 	}
@@ -61,7 +65,7 @@ type CalibrateResult struct {
 // CalibrateLimits are the stop limits of one run. Pass them to CalibrateWithLimits to change them at run time; CalibrateDefaultLimits returns the spec's.
 type CalibrateLimits struct {
 	Gradient    float64 // stop when the largest |∂f/∂xᵢ| is at most this
-	Step        float64 // stop when the largest |Δxᵢ| is at most this·(‖x‖∞ + 1)
+	Step        float64 // stop when every |Δxᵢ| is at most this·(|xᵢ| + 1)
 	Iterations  int     // most accepted steps
 	Evaluations int     // hard cap on objective calls, finite differences included; never exceeded
 }
@@ -82,7 +86,7 @@ func CalibrateDefaultLimits() CalibrateLimits {
 // Step rule armijo: backtrack from `initial` until the Armijo sufficient-decrease test holds.
 // Derivative analytic: the user's own gradient function (spec key `gradient`); costs no objective calls.
 // Constants: initial 1.0, shrink 0.5, c1 0.0001, at most 40 trials per line search.
-// Default stop: largest gradient component ≤ 1e-10, step ≤ 1e-14·(‖x‖∞ + 1), 200 iterations, 2000 objective calls.
+// Default stop: largest gradient component ≤ 1e-10, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 200 iterations, 2000 objective calls.
 //
 // Worst case: 2000 objective calls (the evaluation cap; the iteration limit alone would allow 8001). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
@@ -119,9 +123,9 @@ const (
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
 //  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged);
+//     steps shorter than the step limit are left to try (no decrease);
 //  5. move, refresh the gradient, let the direction learn from the step;
-//  6. stop when the step is at most lim.Step·(‖x‖∞ + 1).
+//  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
 //
 // Before every objective call it checks that lim.Evaluations leaves room
 // for it, so the cap is never exceeded. A NaN or ±Inf at the start or in a
@@ -159,7 +163,7 @@ func calibrateMinimize(x0 [2]float64, lim CalibrateLimits) calibrateOutcome {
 			return out
 		}
 		if out.iterations > 0 {
-			if calibrateMaxAbs(&s) <= lim.Step*(calibrateMaxAbs(&x)+1) {
+			if calibrateStepWithin(&s, &x, lim.Step) {
 				out.status = CalibrateStepTiny
 				return out
 			}
@@ -171,7 +175,7 @@ func calibrateMinimize(x0 [2]float64, lim CalibrateLimits) calibrateOutcome {
 		}
 		dir.compute(&g, &d)
 		now := calibrateDot(&g, &d)
-		if !(now < 0) {
+		if !(now < 0) || !calibrateFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
 			dir.compute(&g, &d)
 			now = calibrateDot(&g, &d)
@@ -180,7 +184,7 @@ func calibrateMinimize(x0 [2]float64, lim CalibrateLimits) calibrateOutcome {
 		if out.iterations > 0 {
 			first = dir.firstTrial(t, slope, now)
 		}
-		tiny := lim.Step * (calibrateMaxAbs(&x) + 1) / calibrateMaxAbs(&d) // steps t ≤ tiny pass the step test
+		tiny := calibrateTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
 		found := calibrateLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt)
 		out.evaluations += found.calls
 		switch found.end {
@@ -190,13 +194,19 @@ func calibrateMinimize(x0 [2]float64, lim CalibrateLimits) calibrateOutcome {
 			out.status = CalibrateNoAcceptableStep
 			return out
 		case calibrateSearchTiny:
-			out.status = CalibrateStepTiny
+			out.status = CalibrateNoDecrease
+			return out
+		}
+		if !calibrateFiniteVec(&xt) {
+			out.status = CalibrateNoAcceptableStep // the accepted trial overflowed x
 			return out
 		}
 		if !found.gradient {
 			if out.evaluations+calibrateDerivativeCost > lim.Evaluations {
-				out.x, out.f = xt, found.value // keep the better point even without its gradient
-				out.iterations++
+				if found.value < fx { // keep a better point even without its gradient
+					out.x, out.f = xt, found.value
+					out.iterations++
+				}
 				return out
 			}
 			calibrateDerivative(&xt, found.value, &gt)
@@ -326,13 +336,14 @@ func calibrateDot(a, b *[2]float64) float64 {
 
 // calibrateCurvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
 // update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
-// as (sᵀy)² > u·(sᵀs)(yᵀy) with u the unit roundoff, so that the updated
+// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
+// that float32 does not overflow, with u the unit roundoff, so that the updated
 // matrix stays positive definite and well conditioned (Nocedal & Wright
 // 2006, §6.1, condition 6.7; the relative threshold √u·‖s‖‖y‖ is from
 // Dennis & Schnabel 1983, Algorithm A9.4.1, recalled from memory).
 func calibrateCurvatureSafe(s, y *[2]float64) bool {
 	sy := calibrateDot(s, y)
-	return sy > 0 && sy*sy > calibrateUnitRoundoff*calibrateDot(s, s)*calibrateDot(y, y)
+	return sy > 0 && (sy/calibrateDot(s, s))*(sy/calibrateDot(y, y)) > calibrateUnitRoundoff
 }
 
 // calibrateMaxAbs returns the largest |x_i|, the infinity norm.
@@ -354,6 +365,32 @@ func calibrateAbs(v float64) float64 {
 	return v
 }
 
+// calibrateStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func calibrateStepWithin(s, x *[2]float64, tol float64) bool {
+	for i := range s {
+		if !(calibrateAbs(s[i]) <= tol*(calibrateAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
+}
+
+// calibrateTinyStep returns the longest t for which the step t·d from x passes the
+// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+func calibrateTinyStep(x, d *[2]float64, tol float64) float64 {
+	tiny := float64(-1)
+	for i := range x {
+		if d[i] != 0 {
+			if t := tol * (calibrateAbs(x[i]) + 1) / calibrateAbs(d[i]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+	}
+	return tiny
+}
+
 // calibrateLineSearch backtracks from the trial step first until the Armijo
 // sufficient-decrease condition holds:
 //
@@ -371,8 +408,8 @@ func calibrateLineSearch(x *[2]float64, fx float64, d *[2]float64, slope, first,
 	t := first
 	var previous, fPrevious float64
 	for trial := 0; trial < calibrateStepTrials; trial++ {
-		if t <= tiny {
-			return calibrateLineResult{calls: trial, end: calibrateTinyOrExhausted(previous == 0 || calibrateFinite(fPrevious))}
+		if trial > 0 && t <= tiny {
+			return calibrateLineResult{calls: trial, end: calibrateTinyOrExhausted(calibrateFinite(fPrevious))}
 		}
 		if trial >= budget {
 			return calibrateLineResult{calls: trial, end: calibrateSearchOutOfBudget}
@@ -399,10 +436,10 @@ type calibrateLineResult struct {
 // calibrateSearchEnd tells how a line search ended.
 type calibrateSearchEnd uint8
 
-// calibrateTinyOrExhausted ends a search that has run below the step limit: x is
-// converged to the step limit when the last failure was a finite increase
-// of f, but a non-finite value says nothing about f near x, so the search
-// has simply failed.
+// calibrateTinyOrExhausted ends a search that has run below the step limit: no
+// decrease was found when the last failure was a finite value, but a
+// non-finite value says nothing about f near x, so the search has simply
+// failed.
 func calibrateTinyOrExhausted(lastFinite bool) calibrateSearchEnd {
 	if lastFinite {
 		return calibrateSearchTiny
@@ -414,7 +451,7 @@ const (
 	calibrateSearchAccepted    calibrateSearchEnd = iota // a step met the rule
 	calibrateSearchExhausted                             // calibrateStepTrials trials met none
 	calibrateSearchOutOfBudget                           // the evaluation cap came first
-	calibrateSearchTiny                                  // every step longer than tiny failed: x is converged to the step limit
+	calibrateSearchTiny                                  // every step longer than tiny failed to decrease f
 )
 
 // calibrateMoveTo sets out = x + t·d.

@@ -8,18 +8,20 @@ type TuneGainStatus uint8
 const (
 	// TuneGainGradientSmall: the largest gradient component fell to the gradient limit: converged.
 	TuneGainGradientSmall TuneGainStatus = iota + 1
-	// TuneGainStepTiny: the last step was at most the step limit relative to ‖x‖∞ + 1: converged.
+	// TuneGainStepTiny: every component of the last step taken was at most the step limit times |xᵢ| + 1: converged.
 	TuneGainStepTiny
 	// TuneGainOutOfIterations: the iteration limit came first.
 	TuneGainOutOfIterations
 	// TuneGainOutOfEvaluations: the next objective call would have exceeded the evaluation cap.
 	TuneGainOutOfEvaluations
-	// TuneGainNoAcceptableStep: no trial of the line search met the step rule within its trials.
+	// TuneGainNoAcceptableStep: no trial of the line search met the step rule at a finite point within its trials.
 	TuneGainNoAcceptableStep
 	// TuneGainNonFiniteStart: x0 or the objective at x0 is NaN or ±Inf.
 	TuneGainNonFiniteStart
 	// TuneGainNonFiniteGradient: a gradient component became NaN or ±Inf.
 	TuneGainNonFiniteGradient
+	// TuneGainNoDecrease: no step longer than the step limit decreased f: X may be a minimizer that the gradient limit cannot confirm (finite differences are noisier than the limit) or the gradient may be wrong.
+	TuneGainNoDecrease
 )
 
 // String describes the status in a few words.
@@ -39,6 +41,8 @@ func (s TuneGainStatus) String() string {
 		return "non-finite start"
 	case TuneGainNonFiniteGradient:
 		return "non-finite gradient"
+	case TuneGainNoDecrease:
+		return "no decrease"
 	default:
 		return "unknown status"
 	}
@@ -61,7 +65,7 @@ type TuneGainResult struct {
 // TuneGainLimits are the stop limits of one run. Pass them to TuneGainWithLimits to change them at run time; TuneGainDefaultLimits returns the spec's.
 type TuneGainLimits struct {
 	Gradient    float64 // stop when the largest |∂f/∂xᵢ| is at most this
-	Step        float64 // stop when the largest |Δxᵢ| is at most this·(‖x‖∞ + 1)
+	Step        float64 // stop when every |Δxᵢ| is at most this·(|xᵢ| + 1)
 	Iterations  int     // most accepted steps
 	Evaluations int     // hard cap on objective calls, finite differences included; never exceeded
 }
@@ -82,7 +86,7 @@ func TuneGainDefaultLimits() TuneGainLimits {
 // Step rule armijo: backtrack from `initial` until the Armijo sufficient-decrease test holds.
 // Derivative central: central differences: 2·dim objective calls per gradient, error O(u^(2/3)).
 // Constants: initial 1.0, shrink 0.5, c1 0.0001, at most 40 trials per line search.
-// Default stop: largest gradient component ≤ 1e-08, step ≤ 1e-14·(‖x‖∞ + 1), 500 iterations, 10000 objective calls.
+// Default stop: largest gradient component ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 500 iterations, 10000 objective calls.
 //
 // Worst case: 10000 objective calls, 2 of them per gradient (the evaluation cap; the iteration limit alone would allow 21003). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
@@ -120,9 +124,9 @@ const (
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
 //  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged);
+//     steps shorter than the step limit are left to try (no decrease);
 //  5. move, refresh the gradient, let the direction learn from the step;
-//  6. stop when the step is at most lim.Step·(‖x‖∞ + 1).
+//  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
 //
 // Before every objective call it checks that lim.Evaluations leaves room
 // for it, so the cap is never exceeded. A NaN or ±Inf at the start or in a
@@ -160,7 +164,7 @@ func tuneGainMinimize(x0 [1]float64, lim TuneGainLimits) tuneGainOutcome {
 			return out
 		}
 		if out.iterations > 0 {
-			if tuneGainMaxAbs(&s) <= lim.Step*(tuneGainMaxAbs(&x)+1) {
+			if tuneGainStepWithin(&s, &x, lim.Step) {
 				out.status = TuneGainStepTiny
 				return out
 			}
@@ -172,7 +176,7 @@ func tuneGainMinimize(x0 [1]float64, lim TuneGainLimits) tuneGainOutcome {
 		}
 		dir.compute(&g, &d)
 		now := tuneGainDot(&g, &d)
-		if !(now < 0) {
+		if !(now < 0) || !tuneGainFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
 			dir.compute(&g, &d)
 			now = tuneGainDot(&g, &d)
@@ -181,7 +185,7 @@ func tuneGainMinimize(x0 [1]float64, lim TuneGainLimits) tuneGainOutcome {
 		if out.iterations > 0 {
 			first = dir.firstTrial(t, slope, now)
 		}
-		tiny := lim.Step * (tuneGainMaxAbs(&x) + 1) / tuneGainMaxAbs(&d) // steps t ≤ tiny pass the step test
+		tiny := tuneGainTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
 		found := tuneGainLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt)
 		out.evaluations += found.calls
 		switch found.end {
@@ -191,13 +195,19 @@ func tuneGainMinimize(x0 [1]float64, lim TuneGainLimits) tuneGainOutcome {
 			out.status = TuneGainNoAcceptableStep
 			return out
 		case tuneGainSearchTiny:
-			out.status = TuneGainStepTiny
+			out.status = TuneGainNoDecrease
+			return out
+		}
+		if !tuneGainFiniteVec(&xt) {
+			out.status = TuneGainNoAcceptableStep // the accepted trial overflowed x
 			return out
 		}
 		if !found.gradient {
 			if out.evaluations+tuneGainDerivativeCost > lim.Evaluations {
-				out.x, out.f = xt, found.value // keep the better point even without its gradient
-				out.iterations++
+				if found.value < fx { // keep a better point even without its gradient
+					out.x, out.f = xt, found.value
+					out.iterations++
+				}
 				return out
 			}
 			tuneGainDerivative(&xt, found.value, &gt)
@@ -252,7 +262,7 @@ func tuneGainDerivative(x *[1]float64, fx float64, g *[1]float64) {
 	probe := *x
 	for i := range probe {
 		xi := probe[i]
-		h := tuneGainCentralScale * max(1, tuneGainAbs(xi)) // N&W §8.1: h = ∛u·max(1,|x_i|)
+		h := tuneGainCentralScale * tuneGainLarger(1, tuneGainAbs(xi)) // N&W §8.1: h = ∛u·max(1,|x_i|)
 		up := xi + h
 		down := xi - h
 		probe[i] = up
@@ -262,6 +272,16 @@ func tuneGainDerivative(x *[1]float64, fx float64, g *[1]float64) {
 		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
 		probe[i] = xi
 	}
+}
+
+// tuneGainLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func tuneGainLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
 }
 
 // tuneGainAbs returns |v|.
@@ -352,13 +372,14 @@ func tuneGainDot(a, b *[1]float64) float64 {
 
 // tuneGainCurvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
 // update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
-// as (sᵀy)² > u·(sᵀs)(yᵀy) with u the unit roundoff, so that the updated
+// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
+// that float32 does not overflow, with u the unit roundoff, so that the updated
 // matrix stays positive definite and well conditioned (Nocedal & Wright
 // 2006, §6.1, condition 6.7; the relative threshold √u·‖s‖‖y‖ is from
 // Dennis & Schnabel 1983, Algorithm A9.4.1, recalled from memory).
 func tuneGainCurvatureSafe(s, y *[1]float64) bool {
 	sy := tuneGainDot(s, y)
-	return sy > 0 && sy*sy > tuneGainUnitRoundoff*tuneGainDot(s, s)*tuneGainDot(y, y)
+	return sy > 0 && (sy/tuneGainDot(s, s))*(sy/tuneGainDot(y, y)) > tuneGainUnitRoundoff
 }
 
 // tuneGainMaxAbs returns the largest |x_i|, the infinity norm.
@@ -370,6 +391,32 @@ func tuneGainMaxAbs(x *[1]float64) float64 {
 		}
 	}
 	return m
+}
+
+// tuneGainStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func tuneGainStepWithin(s, x *[1]float64, tol float64) bool {
+	for i := range s {
+		if !(tuneGainAbs(s[i]) <= tol*(tuneGainAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
+}
+
+// tuneGainTinyStep returns the longest t for which the step t·d from x passes the
+// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+func tuneGainTinyStep(x, d *[1]float64, tol float64) float64 {
+	tiny := float64(-1)
+	for i := range x {
+		if d[i] != 0 {
+			if t := tol * (tuneGainAbs(x[i]) + 1) / tuneGainAbs(d[i]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+	}
+	return tiny
 }
 
 // tuneGainLineSearch backtracks from the trial step first until the Armijo
@@ -389,8 +436,8 @@ func tuneGainLineSearch(x *[1]float64, fx float64, d *[1]float64, slope, first, 
 	t := first
 	var previous, fPrevious float64
 	for trial := 0; trial < tuneGainStepTrials; trial++ {
-		if t <= tiny {
-			return tuneGainLineResult{calls: trial, end: tuneGainTinyOrExhausted(previous == 0 || tuneGainFinite(fPrevious))}
+		if trial > 0 && t <= tiny {
+			return tuneGainLineResult{calls: trial, end: tuneGainTinyOrExhausted(tuneGainFinite(fPrevious))}
 		}
 		if trial >= budget {
 			return tuneGainLineResult{calls: trial, end: tuneGainSearchOutOfBudget}
@@ -417,10 +464,10 @@ type tuneGainLineResult struct {
 // tuneGainSearchEnd tells how a line search ended.
 type tuneGainSearchEnd uint8
 
-// tuneGainTinyOrExhausted ends a search that has run below the step limit: x is
-// converged to the step limit when the last failure was a finite increase
-// of f, but a non-finite value says nothing about f near x, so the search
-// has simply failed.
+// tuneGainTinyOrExhausted ends a search that has run below the step limit: no
+// decrease was found when the last failure was a finite value, but a
+// non-finite value says nothing about f near x, so the search has simply
+// failed.
 func tuneGainTinyOrExhausted(lastFinite bool) tuneGainSearchEnd {
 	if lastFinite {
 		return tuneGainSearchTiny
@@ -432,7 +479,7 @@ const (
 	tuneGainSearchAccepted    tuneGainSearchEnd = iota // a step met the rule
 	tuneGainSearchExhausted                            // tuneGainStepTrials trials met none
 	tuneGainSearchOutOfBudget                          // the evaluation cap came first
-	tuneGainSearchTiny                                 // every step longer than tiny failed: x is converged to the step limit
+	tuneGainSearchTiny                                 // every step longer than tiny failed to decrease f
 )
 
 // tuneGainMoveTo sets out = x + t·d.

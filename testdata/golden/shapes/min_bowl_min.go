@@ -10,18 +10,20 @@ type MinBowlStatus uint8
 const (
 	// MinBowlGradientSmall: the largest gradient component fell to the gradient limit: converged.
 	MinBowlGradientSmall MinBowlStatus = iota + 1
-	// MinBowlStepTiny: the last step was at most the step limit relative to ‖x‖∞ + 1: converged.
+	// MinBowlStepTiny: every component of the last step taken was at most the step limit times |xᵢ| + 1: converged.
 	MinBowlStepTiny
 	// MinBowlOutOfIterations: the iteration limit came first.
 	MinBowlOutOfIterations
 	// MinBowlOutOfEvaluations: the next objective call would have exceeded the evaluation cap.
 	MinBowlOutOfEvaluations
-	// MinBowlNoAcceptableStep: no trial of the line search met the step rule within its trials.
+	// MinBowlNoAcceptableStep: no trial of the line search met the step rule at a finite point within its trials.
 	MinBowlNoAcceptableStep
 	// MinBowlNonFiniteStart: x0 or the objective at x0 is NaN or ±Inf.
 	MinBowlNonFiniteStart
 	// MinBowlNonFiniteGradient: a gradient component became NaN or ±Inf.
 	MinBowlNonFiniteGradient
+	// MinBowlNoDecrease: no step longer than the step limit decreased f: X may be a minimizer that the gradient limit cannot confirm (finite differences are noisier than the limit) or the gradient may be wrong.
+	MinBowlNoDecrease
 )
 
 // String describes the status in a few words.
@@ -41,6 +43,8 @@ func (s MinBowlStatus) String() string {
 		return "non-finite start"
 	case MinBowlNonFiniteGradient:
 		return "non-finite gradient"
+	case MinBowlNoDecrease:
+		return "no decrease"
 	default:
 		return "unknown status"
 	}
@@ -63,7 +67,7 @@ type MinBowlResult struct {
 // MinBowlLimits are the stop limits of one run. Pass them to MinBowlWithLimits to change them at run time; MinBowlDefaultLimits returns the spec's.
 type MinBowlLimits struct {
 	Gradient    float32 // stop when the largest |∂f/∂xᵢ| is at most this
-	Step        float32 // stop when the largest |Δxᵢ| is at most this·(‖x‖∞ + 1)
+	Step        float32 // stop when every |Δxᵢ| is at most this·(|xᵢ| + 1)
 	Iterations  int     // most accepted steps
 	Evaluations int     // hard cap on objective calls, finite differences included; never exceeded
 }
@@ -72,7 +76,7 @@ type MinBowlLimits struct {
 func MinBowlDefaultLimits() MinBowlLimits {
 	return MinBowlLimits{
 		Evaluations: 10000,
-		Gradient:    0.0001,
+		Gradient:    0.01,
 		Iterations:  500,
 		Step:        1e-06,
 	}
@@ -84,7 +88,7 @@ func MinBowlDefaultLimits() MinBowlLimits {
 // Step rule strong-wolfe: bracket and zoom until sufficient decrease and the strong curvature condition hold.
 // Derivative forward: forward differences: dim objective calls per gradient, error O(√u).
 // Constants: initial 1.0, c1 0.0001, c2 0.1, at most 40 trials per line search.
-// Default stop: largest gradient component ≤ 0.0001, step ≤ 1e-06·(‖x‖∞ + 1), 500 iterations, 10000 objective calls.
+// Default stop: largest gradient component ≤ 0.01, every |Δxᵢ| ≤ 1e-06·(|xᵢ| + 1), 500 iterations, 10000 objective calls.
 //
 // Worst case: 10000 objective calls, 3 of them per gradient (the evaluation cap; the iteration limit alone would allow 80004). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
@@ -121,9 +125,9 @@ const (
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
 //  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged);
+//     steps shorter than the step limit are left to try (no decrease);
 //  5. move, refresh the gradient, let the direction learn from the step;
-//  6. stop when the step is at most lim.Step·(‖x‖∞ + 1).
+//  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
 //
 // Before every objective call it checks that lim.Evaluations leaves room
 // for it, so the cap is never exceeded. A NaN or ±Inf at the start or in a
@@ -161,7 +165,7 @@ func minBowlMinimize(x0 [3]float32, lim MinBowlLimits) minBowlOutcome {
 			return out
 		}
 		if out.iterations > 0 {
-			if minBowlMaxAbs(&s) <= lim.Step*(minBowlMaxAbs(&x)+1) {
+			if minBowlStepWithin(&s, &x, lim.Step) {
 				out.status = MinBowlStepTiny
 				return out
 			}
@@ -173,7 +177,7 @@ func minBowlMinimize(x0 [3]float32, lim MinBowlLimits) minBowlOutcome {
 		}
 		dir.compute(&g, &d)
 		now := minBowlDot(&g, &d)
-		if !(now < 0) {
+		if !(now < 0) || !minBowlFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
 			dir.compute(&g, &d)
 			now = minBowlDot(&g, &d)
@@ -182,7 +186,7 @@ func minBowlMinimize(x0 [3]float32, lim MinBowlLimits) minBowlOutcome {
 		if out.iterations > 0 {
 			first = dir.firstTrial(t, slope, now)
 		}
-		tiny := lim.Step * (minBowlMaxAbs(&x) + 1) / minBowlMaxAbs(&d) // steps t ≤ tiny pass the step test
+		tiny := minBowlTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
 		found := minBowlLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt)
 		out.evaluations += found.calls
 		switch found.end {
@@ -192,13 +196,19 @@ func minBowlMinimize(x0 [3]float32, lim MinBowlLimits) minBowlOutcome {
 			out.status = MinBowlNoAcceptableStep
 			return out
 		case minBowlSearchTiny:
-			out.status = MinBowlStepTiny
+			out.status = MinBowlNoDecrease
+			return out
+		}
+		if !minBowlFiniteVec(&xt) {
+			out.status = MinBowlNoAcceptableStep // the accepted trial overflowed x
 			return out
 		}
 		if !found.gradient {
 			if out.evaluations+minBowlDerivativeCost > lim.Evaluations {
-				out.x, out.f = xt, found.value // keep the better point even without its gradient
-				out.iterations++
+				if found.value < fx { // keep a better point even without its gradient
+					out.x, out.f = xt, found.value
+					out.iterations++
+				}
 				return out
 			}
 			minBowlDerivative(&xt, found.value, &gt)
@@ -253,12 +263,22 @@ func minBowlDerivative(x *[3]float32, fx float32, g *[3]float32) {
 	probe := *x
 	for i := range probe {
 		xi := probe[i]
-		h := minBowlForwardScale * max(1, minBowlAbs(xi)) // N&W §8.1: h = √u·max(1,|x_i|)
+		h := minBowlForwardScale * minBowlLarger(1, minBowlAbs(xi)) // N&W §8.1: h = √u·max(1,|x_i|)
 		probe[i] = xi + h
 		h = probe[i] - xi // the step actually representable in elem
 		g[i] = (Bowl(probe[:]) - fx) / h
 		probe[i] = xi
 	}
+}
+
+// minBowlLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func minBowlLarger(a, b float32) float32 {
+	if a > b || a != a {
+		return a
+	}
+	return b
 }
 
 // minBowlAbs returns |v|.
@@ -299,7 +319,7 @@ func (s *minBowlDirection) reset() {
 func (s *minBowlDirection) compute(g, d *[3]float32) {
 	var beta float32
 	if s.steps > 0 && s.steps < 3 && s.squared > 0 {
-		beta = max(minBowlDot(g, &s.change)/s.squared, 0) // N&W eq. 5.45 (PR+)
+		beta = minBowlLarger(minBowlDot(g, &s.change)/s.squared, 0) // N&W eq. 5.45 (PR+)
 	}
 	for i := range d {
 		d[i] = -g[i] + beta*s.previous[i] // N&W eq. 5.44
@@ -352,6 +372,32 @@ func minBowlMaxAbs(x *[3]float32) float32 {
 	return m
 }
 
+// minBowlStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func minBowlStepWithin(s, x *[3]float32, tol float32) bool {
+	for i := range s {
+		if !(minBowlAbs(s[i]) <= tol*(minBowlAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
+}
+
+// minBowlTinyStep returns the longest t for which the step t·d from x passes the
+// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+func minBowlTinyStep(x, d *[3]float32, tol float32) float32 {
+	tiny := float32(-1)
+	for i := range x {
+		if d[i] != 0 {
+			if t := tol * (minBowlAbs(x[i]) + 1) / minBowlAbs(d[i]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+	}
+	return tiny
+}
+
 // minBowlLineSearch finds a step meeting the Wolfe conditions
 //
 //	f(x + t·d) ≤ f(x) + c1·t·∇f(x)ᵀd                (sufficient decrease)
@@ -384,19 +430,17 @@ func minBowlLineSearch(x *[3]float32, fx float32, d *[3]float32, slope, first, t
 	for trial := 0; trial < minBowlStepTrials; trial++ {
 		if bracketed && minBowlAbs(high.step-low.step) <= tiny {
 			// The bracket is below the step limit: take low when it
-			// decreased f; else x is converged to the step limit, unless
-			// f was not finite there.
+			// decreased f; else no step decreased f, unless f was not
+			// finite there.
 			if low.step == 0 {
 				return minBowlLineResult{calls: calls, end: minBowlTinyOrExhausted(minBowlFinite(high.value))}
 			}
-			minBowlMoveTo(xt, x, low.step, d)
-			*gt = lowGradient
-			return minBowlLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: minBowlSearchAccepted}
-		}
-		if !bracketed && t <= tiny {
-			return minBowlLineResult{calls: calls, end: minBowlSearchTiny}
+			return minBowlAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
 		}
 		if calls >= budget {
+			if low.step > 0 {
+				return minBowlAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // keep the decrease already paid for
+			}
 			return minBowlLineResult{calls: calls, end: minBowlSearchOutOfBudget}
 		}
 		minBowlMoveTo(xt, x, t, d)
@@ -407,6 +451,9 @@ func minBowlLineSearch(x *[3]float32, fx float32, d *[3]float32, slope, first, t
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
 		} else {
 			if calls+minBowlDerivativeCost > budget {
+				if low.step > 0 {
+					return minBowlAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+				}
 				return minBowlLineResult{calls: calls, end: minBowlSearchOutOfBudget}
 			}
 			minBowlDerivative(xt, current.value, gt)
@@ -431,6 +478,9 @@ func minBowlLineSearch(x *[3]float32, fx float32, d *[3]float32, slope, first, t
 			t = minBowlExpandTrial(&previous, &current)
 		}
 	}
+	if low.step > 0 {
+		return minBowlAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+	}
 	return minBowlLineResult{calls: calls, end: minBowlSearchExhausted}
 }
 
@@ -453,10 +503,10 @@ type minBowlLinePoint struct {
 	hasSlope           bool
 }
 
-// minBowlTinyOrExhausted ends a search that has run below the step limit: x is
-// converged to the step limit when the last failure was a finite increase
-// of f, but a non-finite value says nothing about f near x, so the search
-// has simply failed.
+// minBowlTinyOrExhausted ends a search that has run below the step limit: no
+// decrease was found when the last failure was a finite value, but a
+// non-finite value says nothing about f near x, so the search has simply
+// failed.
 func minBowlTinyOrExhausted(lastFinite bool) minBowlSearchEnd {
 	if lastFinite {
 		return minBowlSearchTiny
@@ -468,8 +518,17 @@ const (
 	minBowlSearchAccepted    minBowlSearchEnd = iota // a step met the rule
 	minBowlSearchExhausted                           // minBowlStepTrials trials met none
 	minBowlSearchOutOfBudget                         // the evaluation cap came first
-	minBowlSearchTiny                                // every step longer than tiny failed: x is converged to the step limit
+	minBowlSearchTiny                                // every step longer than tiny failed to decrease f
 )
+
+// minBowlAcceptLow ends a Wolfe search with its best trial, which met sufficient
+// decrease though not the curvature condition: the bracket collapsed, the
+// trials ran out or the budget did. Its gradient was kept in lowGradient.
+func minBowlAcceptLow(x, d *[3]float32, low *minBowlLinePoint, lowGradient *[3]float32, calls int, xt, gt *[3]float32) minBowlLineResult {
+	minBowlMoveTo(xt, x, low.step, d)
+	*gt = *lowGradient
+	return minBowlLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: minBowlSearchAccepted}
+}
 
 // minBowlMoveTo sets out = x + t·d.
 func minBowlMoveTo(out, x *[3]float32, t float32, d *[3]float32) {
@@ -533,7 +592,16 @@ func minBowlSquareRoot(v float32) float32 {
 // minBowlClampBetween returns v limited to the interval with ends a and b, in
 // either order.
 func minBowlClampBetween(v, a, b float32) float32 {
-	return max(min(a, b), min(max(a, b), v))
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
 }
 
 // minBowlExpandTrial picks a larger trial after current met sufficient decrease

@@ -28,10 +28,13 @@ func TestMinBowlAllocatesNothing(t *testing.T) {
 	}
 }
 
-// TestMinBowlRespectsEvaluationCap caps the run below what it needs and checks that the cap is never exceeded and that the run says why it stopped.
+// TestMinBowlRespectsEvaluationCap caps the run below what it needs (0–63, powers of two, and one short) and checks that the cap is never exceeded and that the run says why it stopped.
 func TestMinBowlRespectsEvaluationCap(t *testing.T) {
 	needed := MinBowl(minBowlTestStart()).Evaluations
-	for cap := 0; cap < needed; cap += 1 + cap/16 {
+	for cap := 0; cap < needed; cap++ {
+		if cap >= 64 && cap&(cap-1) != 0 && cap != needed-1 {
+			continue
+		}
 		limits := MinBowlDefaultLimits()
 		limits.Evaluations = cap
 		r := MinBowlWithLimits(minBowlTestStart(), limits)
@@ -45,7 +48,7 @@ func TestMinBowlRespectsEvaluationCap(t *testing.T) {
 func BenchmarkMinBowl(b *testing.B) {
 	var r MinBowlResult
 	b.ReportAllocs()
-	for b.Loop() {
+	for i := 0; i < b.N; i++ {
 		r = MinBowl(minBowlTestStart())
 	}
 	b.ReportMetric(float64(r.Evaluations), "evaluations/op")

@@ -8,18 +8,20 @@ type MinParabolaStatus uint8
 const (
 	// MinParabolaGradientSmall: the largest gradient component fell to the gradient limit: converged.
 	MinParabolaGradientSmall MinParabolaStatus = iota + 1
-	// MinParabolaStepTiny: the last step was at most the step limit relative to ‖x‖∞ + 1: converged.
+	// MinParabolaStepTiny: every component of the last step taken was at most the step limit times |xᵢ| + 1: converged.
 	MinParabolaStepTiny
 	// MinParabolaOutOfIterations: the iteration limit came first.
 	MinParabolaOutOfIterations
 	// MinParabolaOutOfEvaluations: the next objective call would have exceeded the evaluation cap.
 	MinParabolaOutOfEvaluations
-	// MinParabolaNoAcceptableStep: no trial of the line search met the step rule within its trials.
+	// MinParabolaNoAcceptableStep: no trial of the line search met the step rule at a finite point within its trials.
 	MinParabolaNoAcceptableStep
 	// MinParabolaNonFiniteStart: x0 or the objective at x0 is NaN or ±Inf.
 	MinParabolaNonFiniteStart
 	// MinParabolaNonFiniteGradient: a gradient component became NaN or ±Inf.
 	MinParabolaNonFiniteGradient
+	// MinParabolaNoDecrease: no step longer than the step limit decreased f: X may be a minimizer that the gradient limit cannot confirm (finite differences are noisier than the limit) or the gradient may be wrong.
+	MinParabolaNoDecrease
 )
 
 // String describes the status in a few words.
@@ -39,6 +41,8 @@ func (s MinParabolaStatus) String() string {
 		return "non-finite start"
 	case MinParabolaNonFiniteGradient:
 		return "non-finite gradient"
+	case MinParabolaNoDecrease:
+		return "no decrease"
 	default:
 		return "unknown status"
 	}
@@ -61,7 +65,7 @@ type MinParabolaResult struct {
 // MinParabolaLimits are the stop limits of one run. Pass them to MinParabolaWithLimits to change them at run time; MinParabolaDefaultLimits returns the spec's.
 type MinParabolaLimits struct {
 	Gradient    float64 // stop when the largest |∂f/∂xᵢ| is at most this
-	Step        float64 // stop when the largest |Δxᵢ| is at most this·(‖x‖∞ + 1)
+	Step        float64 // stop when every |Δxᵢ| is at most this·(|xᵢ| + 1)
 	Iterations  int     // most accepted steps
 	Evaluations int     // hard cap on objective calls, finite differences included; never exceeded
 }
@@ -82,7 +86,7 @@ func MinParabolaDefaultLimits() MinParabolaLimits {
 // Step rule armijo: backtrack from `initial` until the Armijo sufficient-decrease test holds.
 // Derivative central: central differences: 2·dim objective calls per gradient, error O(u^(2/3)).
 // Constants: initial 1.0, shrink 0.5, c1 0.0001, at most 40 trials per line search.
-// Default stop: largest gradient component ≤ 1e-08, step ≤ 1e-14·(‖x‖∞ + 1), 500 iterations, 10000 objective calls.
+// Default stop: largest gradient component ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 500 iterations, 10000 objective calls.
 //
 // Worst case: 10000 objective calls, 2 of them per gradient (the evaluation cap; the iteration limit alone would allow 21003). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
@@ -120,9 +124,9 @@ const (
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
 //  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged);
+//     steps shorter than the step limit are left to try (no decrease);
 //  5. move, refresh the gradient, let the direction learn from the step;
-//  6. stop when the step is at most lim.Step·(‖x‖∞ + 1).
+//  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
 //
 // Before every objective call it checks that lim.Evaluations leaves room
 // for it, so the cap is never exceeded. A NaN or ±Inf at the start or in a
@@ -160,7 +164,7 @@ func minParabolaMinimize(x0 [1]float64, lim MinParabolaLimits) minParabolaOutcom
 			return out
 		}
 		if out.iterations > 0 {
-			if minParabolaMaxAbs(&s) <= lim.Step*(minParabolaMaxAbs(&x)+1) {
+			if minParabolaStepWithin(&s, &x, lim.Step) {
 				out.status = MinParabolaStepTiny
 				return out
 			}
@@ -172,7 +176,7 @@ func minParabolaMinimize(x0 [1]float64, lim MinParabolaLimits) minParabolaOutcom
 		}
 		dir.compute(&g, &d)
 		now := minParabolaDot(&g, &d)
-		if !(now < 0) {
+		if !(now < 0) || !minParabolaFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
 			dir.compute(&g, &d)
 			now = minParabolaDot(&g, &d)
@@ -181,7 +185,7 @@ func minParabolaMinimize(x0 [1]float64, lim MinParabolaLimits) minParabolaOutcom
 		if out.iterations > 0 {
 			first = dir.firstTrial(t, slope, now)
 		}
-		tiny := lim.Step * (minParabolaMaxAbs(&x) + 1) / minParabolaMaxAbs(&d) // steps t ≤ tiny pass the step test
+		tiny := minParabolaTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
 		found := minParabolaLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt)
 		out.evaluations += found.calls
 		switch found.end {
@@ -191,13 +195,19 @@ func minParabolaMinimize(x0 [1]float64, lim MinParabolaLimits) minParabolaOutcom
 			out.status = MinParabolaNoAcceptableStep
 			return out
 		case minParabolaSearchTiny:
-			out.status = MinParabolaStepTiny
+			out.status = MinParabolaNoDecrease
+			return out
+		}
+		if !minParabolaFiniteVec(&xt) {
+			out.status = MinParabolaNoAcceptableStep // the accepted trial overflowed x
 			return out
 		}
 		if !found.gradient {
 			if out.evaluations+minParabolaDerivativeCost > lim.Evaluations {
-				out.x, out.f = xt, found.value // keep the better point even without its gradient
-				out.iterations++
+				if found.value < fx { // keep a better point even without its gradient
+					out.x, out.f = xt, found.value
+					out.iterations++
+				}
 				return out
 			}
 			minParabolaDerivative(&xt, found.value, &gt)
@@ -252,7 +262,7 @@ func minParabolaDerivative(x *[1]float64, fx float64, g *[1]float64) {
 	probe := *x
 	for i := range probe {
 		xi := probe[i]
-		h := minParabolaCentralScale * max(1, minParabolaAbs(xi)) // N&W §8.1: h = ∛u·max(1,|x_i|)
+		h := minParabolaCentralScale * minParabolaLarger(1, minParabolaAbs(xi)) // N&W §8.1: h = ∛u·max(1,|x_i|)
 		up := xi + h
 		down := xi - h
 		probe[i] = up
@@ -262,6 +272,16 @@ func minParabolaDerivative(x *[1]float64, fx float64, g *[1]float64) {
 		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
 		probe[i] = xi
 	}
+}
+
+// minParabolaLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func minParabolaLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
 }
 
 // minParabolaAbs returns |v|.
@@ -352,13 +372,14 @@ func minParabolaDot(a, b *[1]float64) float64 {
 
 // minParabolaCurvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
 // update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
-// as (sᵀy)² > u·(sᵀs)(yᵀy) with u the unit roundoff, so that the updated
+// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
+// that float32 does not overflow, with u the unit roundoff, so that the updated
 // matrix stays positive definite and well conditioned (Nocedal & Wright
 // 2006, §6.1, condition 6.7; the relative threshold √u·‖s‖‖y‖ is from
 // Dennis & Schnabel 1983, Algorithm A9.4.1, recalled from memory).
 func minParabolaCurvatureSafe(s, y *[1]float64) bool {
 	sy := minParabolaDot(s, y)
-	return sy > 0 && sy*sy > minParabolaUnitRoundoff*minParabolaDot(s, s)*minParabolaDot(y, y)
+	return sy > 0 && (sy/minParabolaDot(s, s))*(sy/minParabolaDot(y, y)) > minParabolaUnitRoundoff
 }
 
 // minParabolaMaxAbs returns the largest |x_i|, the infinity norm.
@@ -370,6 +391,32 @@ func minParabolaMaxAbs(x *[1]float64) float64 {
 		}
 	}
 	return m
+}
+
+// minParabolaStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func minParabolaStepWithin(s, x *[1]float64, tol float64) bool {
+	for i := range s {
+		if !(minParabolaAbs(s[i]) <= tol*(minParabolaAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
+}
+
+// minParabolaTinyStep returns the longest t for which the step t·d from x passes the
+// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+func minParabolaTinyStep(x, d *[1]float64, tol float64) float64 {
+	tiny := float64(-1)
+	for i := range x {
+		if d[i] != 0 {
+			if t := tol * (minParabolaAbs(x[i]) + 1) / minParabolaAbs(d[i]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+	}
+	return tiny
 }
 
 // minParabolaLineSearch backtracks from the trial step first until the Armijo
@@ -389,8 +436,8 @@ func minParabolaLineSearch(x *[1]float64, fx float64, d *[1]float64, slope, firs
 	t := first
 	var previous, fPrevious float64
 	for trial := 0; trial < minParabolaStepTrials; trial++ {
-		if t <= tiny {
-			return minParabolaLineResult{calls: trial, end: minParabolaTinyOrExhausted(previous == 0 || minParabolaFinite(fPrevious))}
+		if trial > 0 && t <= tiny {
+			return minParabolaLineResult{calls: trial, end: minParabolaTinyOrExhausted(minParabolaFinite(fPrevious))}
 		}
 		if trial >= budget {
 			return minParabolaLineResult{calls: trial, end: minParabolaSearchOutOfBudget}
@@ -417,10 +464,10 @@ type minParabolaLineResult struct {
 // minParabolaSearchEnd tells how a line search ended.
 type minParabolaSearchEnd uint8
 
-// minParabolaTinyOrExhausted ends a search that has run below the step limit: x is
-// converged to the step limit when the last failure was a finite increase
-// of f, but a non-finite value says nothing about f near x, so the search
-// has simply failed.
+// minParabolaTinyOrExhausted ends a search that has run below the step limit: no
+// decrease was found when the last failure was a finite value, but a
+// non-finite value says nothing about f near x, so the search has simply
+// failed.
 func minParabolaTinyOrExhausted(lastFinite bool) minParabolaSearchEnd {
 	if lastFinite {
 		return minParabolaSearchTiny
@@ -432,7 +479,7 @@ const (
 	minParabolaSearchAccepted    minParabolaSearchEnd = iota // a step met the rule
 	minParabolaSearchExhausted                               // minParabolaStepTrials trials met none
 	minParabolaSearchOutOfBudget                             // the evaluation cap came first
-	minParabolaSearchTiny                                    // every step longer than tiny failed: x is converged to the step limit
+	minParabolaSearchTiny                                    // every step longer than tiny failed to decrease f
 )
 
 // minParabolaMoveTo sets out = x + t·d.

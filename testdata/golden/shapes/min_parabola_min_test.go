@@ -28,10 +28,13 @@ func TestMinParabolaAllocatesNothing(t *testing.T) {
 	}
 }
 
-// TestMinParabolaRespectsEvaluationCap caps the run below what it needs and checks that the cap is never exceeded and that the run says why it stopped.
+// TestMinParabolaRespectsEvaluationCap caps the run below what it needs (0–63, powers of two, and one short) and checks that the cap is never exceeded and that the run says why it stopped.
 func TestMinParabolaRespectsEvaluationCap(t *testing.T) {
 	needed := MinParabola(minParabolaTestStart()).Evaluations
-	for cap := 0; cap < needed; cap += 1 + cap/16 {
+	for cap := 0; cap < needed; cap++ {
+		if cap >= 64 && cap&(cap-1) != 0 && cap != needed-1 {
+			continue
+		}
 		limits := MinParabolaDefaultLimits()
 		limits.Evaluations = cap
 		r := MinParabolaWithLimits(minParabolaTestStart(), limits)
@@ -45,7 +48,7 @@ func TestMinParabolaRespectsEvaluationCap(t *testing.T) {
 func BenchmarkMinParabola(b *testing.B) {
 	var r MinParabolaResult
 	b.ReportAllocs()
-	for b.Loop() {
+	for i := 0; i < b.N; i++ {
 		r = MinParabola(minParabolaTestStart())
 	}
 	b.ReportMetric(float64(r.Evaluations), "evaluations/op")

@@ -10,18 +10,20 @@ type MinPlateDecreaseStatus uint8
 const (
 	// MinPlateDecreaseGradientSmall: the largest gradient component fell to the gradient limit: converged.
 	MinPlateDecreaseGradientSmall MinPlateDecreaseStatus = iota + 1
-	// MinPlateDecreaseStepTiny: the last step was at most the step limit relative to ‖x‖∞ + 1: converged.
+	// MinPlateDecreaseStepTiny: every component of the last step taken was at most the step limit times |xᵢ| + 1: converged.
 	MinPlateDecreaseStepTiny
 	// MinPlateDecreaseOutOfIterations: the iteration limit came first.
 	MinPlateDecreaseOutOfIterations
 	// MinPlateDecreaseOutOfEvaluations: the next objective call would have exceeded the evaluation cap.
 	MinPlateDecreaseOutOfEvaluations
-	// MinPlateDecreaseNoAcceptableStep: no trial of the line search met the step rule within its trials.
+	// MinPlateDecreaseNoAcceptableStep: no trial of the line search met the step rule at a finite point within its trials.
 	MinPlateDecreaseNoAcceptableStep
 	// MinPlateDecreaseNonFiniteStart: x0 or the objective at x0 is NaN or ±Inf.
 	MinPlateDecreaseNonFiniteStart
 	// MinPlateDecreaseNonFiniteGradient: a gradient component became NaN or ±Inf.
 	MinPlateDecreaseNonFiniteGradient
+	// MinPlateDecreaseNoDecrease: no step longer than the step limit decreased f: X may be a minimizer that the gradient limit cannot confirm (finite differences are noisier than the limit) or the gradient may be wrong.
+	MinPlateDecreaseNoDecrease
 )
 
 // String describes the status in a few words.
@@ -41,6 +43,8 @@ func (s MinPlateDecreaseStatus) String() string {
 		return "non-finite start"
 	case MinPlateDecreaseNonFiniteGradient:
 		return "non-finite gradient"
+	case MinPlateDecreaseNoDecrease:
+		return "no decrease"
 	default:
 		return "unknown status"
 	}
@@ -63,7 +67,7 @@ type MinPlateDecreaseResult struct {
 // MinPlateDecreaseLimits are the stop limits of one run. Pass them to MinPlateDecreaseWithLimits to change them at run time; MinPlateDecreaseDefaultLimits returns the spec's.
 type MinPlateDecreaseLimits struct {
 	Gradient    float32 // stop when the largest |∂f/∂xᵢ| is at most this
-	Step        float32 // stop when the largest |Δxᵢ| is at most this·(‖x‖∞ + 1)
+	Step        float32 // stop when every |Δxᵢ| is at most this·(|xᵢ| + 1)
 	Iterations  int     // most accepted steps
 	Evaluations int     // hard cap on objective calls, finite differences included; never exceeded
 }
@@ -72,7 +76,7 @@ type MinPlateDecreaseLimits struct {
 func MinPlateDecreaseDefaultLimits() MinPlateDecreaseLimits {
 	return MinPlateDecreaseLimits{
 		Evaluations: 10000,
-		Gradient:    0.0001,
+		Gradient:    0.001,
 		Iterations:  500,
 		Step:        1e-06,
 	}
@@ -84,7 +88,7 @@ func MinPlateDecreaseDefaultLimits() MinPlateDecreaseLimits {
 // Step rule decrease: backtrack from `initial` until f decreases at all.
 // Derivative central: central differences: 2·dim objective calls per gradient, error O(u^(2/3)).
 // Constants: initial 1.0, at most 40 trials per line search, trials by safeguarded quadratic/cubic interpolation.
-// Default stop: largest gradient component ≤ 0.0001, step ≤ 1e-06·(‖x‖∞ + 1), 500 iterations, 10000 objective calls.
+// Default stop: largest gradient component ≤ 0.001, every |Δxᵢ| ≤ 1e-06·(|xᵢ| + 1), 500 iterations, 10000 objective calls.
 //
 // Worst case: 10000 objective calls, 4 of them per gradient (the evaluation cap; the iteration limit alone would allow 22005). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
@@ -120,9 +124,9 @@ const (
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
 //  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged);
+//     steps shorter than the step limit are left to try (no decrease);
 //  5. move, refresh the gradient, let the direction learn from the step;
-//  6. stop when the step is at most lim.Step·(‖x‖∞ + 1).
+//  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
 //
 // Before every objective call it checks that lim.Evaluations leaves room
 // for it, so the cap is never exceeded. A NaN or ±Inf at the start or in a
@@ -160,7 +164,7 @@ func minPlateDecreaseMinimize(x0 [2]float32, lim MinPlateDecreaseLimits) minPlat
 			return out
 		}
 		if out.iterations > 0 {
-			if minPlateDecreaseMaxAbs(&s) <= lim.Step*(minPlateDecreaseMaxAbs(&x)+1) {
+			if minPlateDecreaseStepWithin(&s, &x, lim.Step) {
 				out.status = MinPlateDecreaseStepTiny
 				return out
 			}
@@ -172,7 +176,7 @@ func minPlateDecreaseMinimize(x0 [2]float32, lim MinPlateDecreaseLimits) minPlat
 		}
 		dir.compute(&g, &d)
 		now := minPlateDecreaseDot(&g, &d)
-		if !(now < 0) {
+		if !(now < 0) || !minPlateDecreaseFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
 			dir.compute(&g, &d)
 			now = minPlateDecreaseDot(&g, &d)
@@ -181,7 +185,7 @@ func minPlateDecreaseMinimize(x0 [2]float32, lim MinPlateDecreaseLimits) minPlat
 		if out.iterations > 0 {
 			first = dir.firstTrial(t, slope, now)
 		}
-		tiny := lim.Step * (minPlateDecreaseMaxAbs(&x) + 1) / minPlateDecreaseMaxAbs(&d) // steps t ≤ tiny pass the step test
+		tiny := minPlateDecreaseTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
 		found := minPlateDecreaseLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt)
 		out.evaluations += found.calls
 		switch found.end {
@@ -191,13 +195,19 @@ func minPlateDecreaseMinimize(x0 [2]float32, lim MinPlateDecreaseLimits) minPlat
 			out.status = MinPlateDecreaseNoAcceptableStep
 			return out
 		case minPlateDecreaseSearchTiny:
-			out.status = MinPlateDecreaseStepTiny
+			out.status = MinPlateDecreaseNoDecrease
+			return out
+		}
+		if !minPlateDecreaseFiniteVec(&xt) {
+			out.status = MinPlateDecreaseNoAcceptableStep // the accepted trial overflowed x
 			return out
 		}
 		if !found.gradient {
 			if out.evaluations+minPlateDecreaseDerivativeCost > lim.Evaluations {
-				out.x, out.f = xt, found.value // keep the better point even without its gradient
-				out.iterations++
+				if found.value < fx { // keep a better point even without its gradient
+					out.x, out.f = xt, found.value
+					out.iterations++
+				}
 				return out
 			}
 			minPlateDecreaseDerivative(&xt, found.value, &gt)
@@ -252,7 +262,7 @@ func minPlateDecreaseDerivative(x *[2]float32, fx float32, g *[2]float32) {
 	probe := *x
 	for i := range probe {
 		xi := probe[i]
-		h := minPlateDecreaseCentralScale * max(1, minPlateDecreaseAbs(xi)) // N&W §8.1: h = ∛u·max(1,|x_i|)
+		h := minPlateDecreaseCentralScale * minPlateDecreaseLarger(1, minPlateDecreaseAbs(xi)) // N&W §8.1: h = ∛u·max(1,|x_i|)
 		up := xi + h
 		down := xi - h
 		probe[i] = up
@@ -262,6 +272,16 @@ func minPlateDecreaseDerivative(x *[2]float32, fx float32, g *[2]float32) {
 		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
 		probe[i] = xi
 	}
+}
+
+// minPlateDecreaseLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func minPlateDecreaseLarger(a, b float32) float32 {
+	if a > b || a != a {
+		return a
+	}
+	return b
 }
 
 // minPlateDecreaseAbs returns |v|.
@@ -319,6 +339,18 @@ func minPlateDecreaseMaxAbs(x *[2]float32) float32 {
 	return m
 }
 
+// minPlateDecreaseStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func minPlateDecreaseStepWithin(s, x *[2]float32, tol float32) bool {
+	for i := range s {
+		if !(minPlateDecreaseAbs(s[i]) <= tol*(minPlateDecreaseAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
+}
+
 // minPlateDecreaseDot returns aᵀb.
 func minPlateDecreaseDot(a, b *[2]float32) float32 {
 	var s float32
@@ -326,6 +358,20 @@ func minPlateDecreaseDot(a, b *[2]float32) float32 {
 		s += a[i] * b[i]
 	}
 	return s
+}
+
+// minPlateDecreaseTinyStep returns the longest t for which the step t·d from x passes the
+// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+func minPlateDecreaseTinyStep(x, d *[2]float32, tol float32) float32 {
+	tiny := float32(-1)
+	for i := range x {
+		if d[i] != 0 {
+			if t := tol * (minPlateDecreaseAbs(x[i]) + 1) / minPlateDecreaseAbs(d[i]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+	}
+	return tiny
 }
 
 // minPlateDecreaseLineSearch backtracks from the trial step first until f decreases at
@@ -336,8 +382,8 @@ func minPlateDecreaseLineSearch(x *[2]float32, fx float32, d *[2]float32, slope,
 	t := first
 	var previous, fPrevious float32
 	for trial := 0; trial < minPlateDecreaseStepTrials; trial++ {
-		if t <= tiny {
-			return minPlateDecreaseLineResult{calls: trial, end: minPlateDecreaseTinyOrExhausted(previous == 0 || minPlateDecreaseFinite(fPrevious))}
+		if trial > 0 && t <= tiny {
+			return minPlateDecreaseLineResult{calls: trial, end: minPlateDecreaseTinyOrExhausted(minPlateDecreaseFinite(fPrevious))}
 		}
 		if trial >= budget {
 			return minPlateDecreaseLineResult{calls: trial, end: minPlateDecreaseSearchOutOfBudget}
@@ -364,10 +410,10 @@ type minPlateDecreaseLineResult struct {
 // minPlateDecreaseSearchEnd tells how a line search ended.
 type minPlateDecreaseSearchEnd uint8
 
-// minPlateDecreaseTinyOrExhausted ends a search that has run below the step limit: x is
-// converged to the step limit when the last failure was a finite increase
-// of f, but a non-finite value says nothing about f near x, so the search
-// has simply failed.
+// minPlateDecreaseTinyOrExhausted ends a search that has run below the step limit: no
+// decrease was found when the last failure was a finite value, but a
+// non-finite value says nothing about f near x, so the search has simply
+// failed.
 func minPlateDecreaseTinyOrExhausted(lastFinite bool) minPlateDecreaseSearchEnd {
 	if lastFinite {
 		return minPlateDecreaseSearchTiny
@@ -379,7 +425,7 @@ const (
 	minPlateDecreaseSearchAccepted    minPlateDecreaseSearchEnd = iota // a step met the rule
 	minPlateDecreaseSearchExhausted                                    // minPlateDecreaseStepTrials trials met none
 	minPlateDecreaseSearchOutOfBudget                                  // the evaluation cap came first
-	minPlateDecreaseSearchTiny                                         // every step longer than tiny failed: x is converged to the step limit
+	minPlateDecreaseSearchTiny                                         // every step longer than tiny failed to decrease f
 )
 
 // minPlateDecreaseMoveTo sets out = x + t·d.

@@ -28,10 +28,13 @@ func TestMinPlateDecreaseAllocatesNothing(t *testing.T) {
 	}
 }
 
-// TestMinPlateDecreaseRespectsEvaluationCap caps the run below what it needs and checks that the cap is never exceeded and that the run says why it stopped.
+// TestMinPlateDecreaseRespectsEvaluationCap caps the run below what it needs (0–63, powers of two, and one short) and checks that the cap is never exceeded and that the run says why it stopped.
 func TestMinPlateDecreaseRespectsEvaluationCap(t *testing.T) {
 	needed := MinPlateDecrease(minPlateDecreaseTestStart()).Evaluations
-	for cap := 0; cap < needed; cap += 1 + cap/16 {
+	for cap := 0; cap < needed; cap++ {
+		if cap >= 64 && cap&(cap-1) != 0 && cap != needed-1 {
+			continue
+		}
 		limits := MinPlateDecreaseDefaultLimits()
 		limits.Evaluations = cap
 		r := MinPlateDecreaseWithLimits(minPlateDecreaseTestStart(), limits)
@@ -45,7 +48,7 @@ func TestMinPlateDecreaseRespectsEvaluationCap(t *testing.T) {
 func BenchmarkMinPlateDecrease(b *testing.B) {
 	var r MinPlateDecreaseResult
 	b.ReportAllocs()
-	for b.Loop() {
+	for i := 0; i < b.N; i++ {
 		r = MinPlateDecrease(minPlateDecreaseTestStart())
 	}
 	b.ReportMetric(float64(r.Evaluations), "evaluations/op")

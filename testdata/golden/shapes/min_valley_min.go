@@ -10,18 +10,20 @@ type MinValleyStatus uint8
 const (
 	// MinValleyGradientSmall: the largest gradient component fell to the gradient limit: converged.
 	MinValleyGradientSmall MinValleyStatus = iota + 1
-	// MinValleyStepTiny: the last step was at most the step limit relative to ‖x‖∞ + 1: converged.
+	// MinValleyStepTiny: every component of the last step taken was at most the step limit times |xᵢ| + 1: converged.
 	MinValleyStepTiny
 	// MinValleyOutOfIterations: the iteration limit came first.
 	MinValleyOutOfIterations
 	// MinValleyOutOfEvaluations: the next objective call would have exceeded the evaluation cap.
 	MinValleyOutOfEvaluations
-	// MinValleyNoAcceptableStep: no trial of the line search met the step rule within its trials.
+	// MinValleyNoAcceptableStep: no trial of the line search met the step rule at a finite point within its trials.
 	MinValleyNoAcceptableStep
 	// MinValleyNonFiniteStart: x0 or the objective at x0 is NaN or ±Inf.
 	MinValleyNonFiniteStart
 	// MinValleyNonFiniteGradient: a gradient component became NaN or ±Inf.
 	MinValleyNonFiniteGradient
+	// MinValleyNoDecrease: no step longer than the step limit decreased f: X may be a minimizer that the gradient limit cannot confirm (finite differences are noisier than the limit) or the gradient may be wrong.
+	MinValleyNoDecrease
 )
 
 // String describes the status in a few words.
@@ -41,6 +43,8 @@ func (s MinValleyStatus) String() string {
 		return "non-finite start"
 	case MinValleyNonFiniteGradient:
 		return "non-finite gradient"
+	case MinValleyNoDecrease:
+		return "no decrease"
 	default:
 		return "unknown status"
 	}
@@ -63,7 +67,7 @@ type MinValleyResult struct {
 // MinValleyLimits are the stop limits of one run. Pass them to MinValleyWithLimits to change them at run time; MinValleyDefaultLimits returns the spec's.
 type MinValleyLimits struct {
 	Gradient    float64 // stop when the largest |∂f/∂xᵢ| is at most this
-	Step        float64 // stop when the largest |Δxᵢ| is at most this·(‖x‖∞ + 1)
+	Step        float64 // stop when every |Δxᵢ| is at most this·(|xᵢ| + 1)
 	Iterations  int     // most accepted steps
 	Evaluations int     // hard cap on objective calls, finite differences included; never exceeded
 }
@@ -84,7 +88,7 @@ func MinValleyDefaultLimits() MinValleyLimits {
 // Step rule wolfe: bracket and zoom until sufficient decrease and the curvature condition hold.
 // Derivative analytic: the user's own gradient function (spec key `gradient`); costs no objective calls.
 // Constants: initial 1.0, c1 0.0001, c2 0.8, at most 40 trials per line search, memory 3 pairs.
-// Default stop: largest gradient component ≤ 1e-08, step ≤ 1e-14·(‖x‖∞ + 1), 500 iterations, 10000 objective calls.
+// Default stop: largest gradient component ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 500 iterations, 10000 objective calls.
 //
 // Worst case: 10000 objective calls (the evaluation cap; the iteration limit alone would allow 20001). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
@@ -122,9 +126,9 @@ const (
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
 //  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged);
+//     steps shorter than the step limit are left to try (no decrease);
 //  5. move, refresh the gradient, let the direction learn from the step;
-//  6. stop when the step is at most lim.Step·(‖x‖∞ + 1).
+//  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
 //
 // Before every objective call it checks that lim.Evaluations leaves room
 // for it, so the cap is never exceeded. A NaN or ±Inf at the start or in a
@@ -162,7 +166,7 @@ func minValleyMinimize(recv *Valley, x0 [2]float64, lim MinValleyLimits) minVall
 			return out
 		}
 		if out.iterations > 0 {
-			if minValleyMaxAbs(&s) <= lim.Step*(minValleyMaxAbs(&x)+1) {
+			if minValleyStepWithin(&s, &x, lim.Step) {
 				out.status = MinValleyStepTiny
 				return out
 			}
@@ -174,7 +178,7 @@ func minValleyMinimize(recv *Valley, x0 [2]float64, lim MinValleyLimits) minVall
 		}
 		dir.compute(&g, &d)
 		now := minValleyDot(&g, &d)
-		if !(now < 0) {
+		if !(now < 0) || !minValleyFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
 			dir.compute(&g, &d)
 			now = minValleyDot(&g, &d)
@@ -183,7 +187,7 @@ func minValleyMinimize(recv *Valley, x0 [2]float64, lim MinValleyLimits) minVall
 		if out.iterations > 0 {
 			first = dir.firstTrial(t, slope, now)
 		}
-		tiny := lim.Step * (minValleyMaxAbs(&x) + 1) / minValleyMaxAbs(&d) // steps t ≤ tiny pass the step test
+		tiny := minValleyTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
 		found := minValleyLineSearch(recv, &x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt)
 		out.evaluations += found.calls
 		switch found.end {
@@ -193,13 +197,19 @@ func minValleyMinimize(recv *Valley, x0 [2]float64, lim MinValleyLimits) minVall
 			out.status = MinValleyNoAcceptableStep
 			return out
 		case minValleySearchTiny:
-			out.status = MinValleyStepTiny
+			out.status = MinValleyNoDecrease
+			return out
+		}
+		if !minValleyFiniteVec(&xt) {
+			out.status = MinValleyNoAcceptableStep // the accepted trial overflowed x
 			return out
 		}
 		if !found.gradient {
 			if out.evaluations+minValleyDerivativeCost > lim.Evaluations {
-				out.x, out.f = xt, found.value // keep the better point even without its gradient
-				out.iterations++
+				if found.value < fx { // keep a better point even without its gradient
+					out.x, out.f = xt, found.value
+					out.iterations++
+				}
 				return out
 			}
 			minValleyDerivative(recv, &xt, found.value, &gt)
@@ -271,7 +281,7 @@ type minValleyDirection struct {
 	s, y   [minValleyLbfgsMemory][2]float64
 	rho    [minValleyLbfgsMemory]float64
 	newest int // index of the newest pair
-	count  int
+	count  int // pairs held, at most minValleyLbfgsMemory
 }
 
 func (s *minValleyDirection) reset() {
@@ -356,13 +366,14 @@ func minValleyNegate(out, x *[2]float64) {
 
 // minValleyCurvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
 // update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
-// as (sᵀy)² > u·(sᵀs)(yᵀy) with u the unit roundoff, so that the updated
+// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
+// that float32 does not overflow, with u the unit roundoff, so that the updated
 // matrix stays positive definite and well conditioned (Nocedal & Wright
 // 2006, §6.1, condition 6.7; the relative threshold √u·‖s‖‖y‖ is from
 // Dennis & Schnabel 1983, Algorithm A9.4.1, recalled from memory).
 func minValleyCurvatureSafe(s, y *[2]float64) bool {
 	sy := minValleyDot(s, y)
-	return sy > 0 && sy*sy > minValleyUnitRoundoff*minValleyDot(s, s)*minValleyDot(y, y)
+	return sy > 0 && (sy/minValleyDot(s, s))*(sy/minValleyDot(y, y)) > minValleyUnitRoundoff
 }
 
 // minValleyMaxAbs returns the largest |x_i|, the infinity norm.
@@ -382,6 +393,32 @@ func minValleyAbs(v float64) float64 {
 		return -v
 	}
 	return v
+}
+
+// minValleyStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func minValleyStepWithin(s, x *[2]float64, tol float64) bool {
+	for i := range s {
+		if !(minValleyAbs(s[i]) <= tol*(minValleyAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
+}
+
+// minValleyTinyStep returns the longest t for which the step t·d from x passes the
+// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+func minValleyTinyStep(x, d *[2]float64, tol float64) float64 {
+	tiny := float64(-1)
+	for i := range x {
+		if d[i] != 0 {
+			if t := tol * (minValleyAbs(x[i]) + 1) / minValleyAbs(d[i]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+	}
+	return tiny
 }
 
 // minValleyLineSearch finds a step meeting the Wolfe conditions
@@ -416,19 +453,17 @@ func minValleyLineSearch(recv *Valley, x *[2]float64, fx float64, d *[2]float64,
 	for trial := 0; trial < minValleyStepTrials; trial++ {
 		if bracketed && minValleyAbs(high.step-low.step) <= tiny {
 			// The bracket is below the step limit: take low when it
-			// decreased f; else x is converged to the step limit, unless
-			// f was not finite there.
+			// decreased f; else no step decreased f, unless f was not
+			// finite there.
 			if low.step == 0 {
 				return minValleyLineResult{calls: calls, end: minValleyTinyOrExhausted(minValleyFinite(high.value))}
 			}
-			minValleyMoveTo(xt, x, low.step, d)
-			*gt = lowGradient
-			return minValleyLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: minValleySearchAccepted}
-		}
-		if !bracketed && t <= tiny {
-			return minValleyLineResult{calls: calls, end: minValleySearchTiny}
+			return minValleyAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
 		}
 		if calls >= budget {
+			if low.step > 0 {
+				return minValleyAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // keep the decrease already paid for
+			}
 			return minValleyLineResult{calls: calls, end: minValleySearchOutOfBudget}
 		}
 		minValleyMoveTo(xt, x, t, d)
@@ -439,6 +474,9 @@ func minValleyLineSearch(recv *Valley, x *[2]float64, fx float64, d *[2]float64,
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
 		} else {
 			if calls+minValleyDerivativeCost > budget {
+				if low.step > 0 {
+					return minValleyAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+				}
 				return minValleyLineResult{calls: calls, end: minValleySearchOutOfBudget}
 			}
 			minValleyDerivative(recv, xt, current.value, gt)
@@ -463,6 +501,9 @@ func minValleyLineSearch(recv *Valley, x *[2]float64, fx float64, d *[2]float64,
 			t = minValleyExpandTrial(&previous, &current)
 		}
 	}
+	if low.step > 0 {
+		return minValleyAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+	}
 	return minValleyLineResult{calls: calls, end: minValleySearchExhausted}
 }
 
@@ -485,10 +526,10 @@ type minValleyLinePoint struct {
 	hasSlope           bool
 }
 
-// minValleyTinyOrExhausted ends a search that has run below the step limit: x is
-// converged to the step limit when the last failure was a finite increase
-// of f, but a non-finite value says nothing about f near x, so the search
-// has simply failed.
+// minValleyTinyOrExhausted ends a search that has run below the step limit: no
+// decrease was found when the last failure was a finite value, but a
+// non-finite value says nothing about f near x, so the search has simply
+// failed.
 func minValleyTinyOrExhausted(lastFinite bool) minValleySearchEnd {
 	if lastFinite {
 		return minValleySearchTiny
@@ -500,8 +541,17 @@ const (
 	minValleySearchAccepted    minValleySearchEnd = iota // a step met the rule
 	minValleySearchExhausted                             // minValleyStepTrials trials met none
 	minValleySearchOutOfBudget                           // the evaluation cap came first
-	minValleySearchTiny                                  // every step longer than tiny failed: x is converged to the step limit
+	minValleySearchTiny                                  // every step longer than tiny failed to decrease f
 )
+
+// minValleyAcceptLow ends a Wolfe search with its best trial, which met sufficient
+// decrease though not the curvature condition: the bracket collapsed, the
+// trials ran out or the budget did. Its gradient was kept in lowGradient.
+func minValleyAcceptLow(x, d *[2]float64, low *minValleyLinePoint, lowGradient *[2]float64, calls int, xt, gt *[2]float64) minValleyLineResult {
+	minValleyMoveTo(xt, x, low.step, d)
+	*gt = *lowGradient
+	return minValleyLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: minValleySearchAccepted}
+}
 
 // minValleyMoveTo sets out = x + t·d.
 func minValleyMoveTo(out, x *[2]float64, t float64, d *[2]float64) {
@@ -565,7 +615,16 @@ func minValleySquareRoot(v float64) float64 {
 // minValleyClampBetween returns v limited to the interval with ends a and b, in
 // either order.
 func minValleyClampBetween(v, a, b float64) float64 {
-	return max(min(a, b), min(max(a, b), v))
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
 }
 
 // minValleyExpandTrial picks a larger trial after current met sufficient decrease

@@ -8,18 +8,20 @@ type MinPlateStatus uint8
 const (
 	// MinPlateGradientSmall: the largest gradient component fell to the gradient limit: converged.
 	MinPlateGradientSmall MinPlateStatus = iota + 1
-	// MinPlateStepTiny: the last step was at most the step limit relative to ‖x‖∞ + 1: converged.
+	// MinPlateStepTiny: every component of the last step taken was at most the step limit times |xᵢ| + 1: converged.
 	MinPlateStepTiny
 	// MinPlateOutOfIterations: the iteration limit came first.
 	MinPlateOutOfIterations
 	// MinPlateOutOfEvaluations: the next objective call would have exceeded the evaluation cap.
 	MinPlateOutOfEvaluations
-	// MinPlateNoAcceptableStep: no trial of the line search met the step rule within its trials.
+	// MinPlateNoAcceptableStep: no trial of the line search met the step rule at a finite point within its trials.
 	MinPlateNoAcceptableStep
 	// MinPlateNonFiniteStart: x0 or the objective at x0 is NaN or ±Inf.
 	MinPlateNonFiniteStart
 	// MinPlateNonFiniteGradient: a gradient component became NaN or ±Inf.
 	MinPlateNonFiniteGradient
+	// MinPlateNoDecrease: no step longer than the step limit decreased f: X may be a minimizer that the gradient limit cannot confirm (finite differences are noisier than the limit) or the gradient may be wrong.
+	MinPlateNoDecrease
 )
 
 // String describes the status in a few words.
@@ -39,6 +41,8 @@ func (s MinPlateStatus) String() string {
 		return "non-finite start"
 	case MinPlateNonFiniteGradient:
 		return "non-finite gradient"
+	case MinPlateNoDecrease:
+		return "no decrease"
 	default:
 		return "unknown status"
 	}
@@ -61,7 +65,7 @@ type MinPlateResult struct {
 // MinPlateLimits are the stop limits of one run. Pass them to MinPlateWithLimits to change them at run time; MinPlateDefaultLimits returns the spec's.
 type MinPlateLimits struct {
 	Gradient    float32 // stop when the largest |∂f/∂xᵢ| is at most this
-	Step        float32 // stop when the largest |Δxᵢ| is at most this·(‖x‖∞ + 1)
+	Step        float32 // stop when every |Δxᵢ| is at most this·(|xᵢ| + 1)
 	Iterations  int     // most accepted steps
 	Evaluations int     // hard cap on objective calls, finite differences included; never exceeded
 }
@@ -82,7 +86,7 @@ func MinPlateDefaultLimits() MinPlateLimits {
 // Step rule fixed: always step by `initial`; the hand-written gradient loop, made bounded and NaN-safe.
 // Derivative analytic: the user's own gradient function (spec key `gradient`); costs no objective calls.
 // Constants: initial 0.2.
-// Default stop: largest gradient component ≤ 0.0001, step ≤ 1e-06·(‖x‖∞ + 1), 500 iterations, 10000 objective calls.
+// Default stop: largest gradient component ≤ 0.0001, every |Δxᵢ| ≤ 1e-06·(|xᵢ| + 1), 500 iterations, 10000 objective calls.
 //
 // Worst case: 501 objective calls (the evaluation cap; the iteration limit alone would allow 501). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
@@ -115,9 +119,9 @@ const (
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
 //  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged);
+//     steps shorter than the step limit are left to try (no decrease);
 //  5. move, refresh the gradient, let the direction learn from the step;
-//  6. stop when the step is at most lim.Step·(‖x‖∞ + 1).
+//  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
 //
 // Before every objective call it checks that lim.Evaluations leaves room
 // for it, so the cap is never exceeded. A NaN or ±Inf at the start or in a
@@ -155,7 +159,7 @@ func minPlateMinimize(x0 [2]float32, lim MinPlateLimits) minPlateOutcome {
 			return out
 		}
 		if out.iterations > 0 {
-			if minPlateMaxAbs(&s) <= lim.Step*(minPlateMaxAbs(&x)+1) {
+			if minPlateStepWithin(&s, &x, lim.Step) {
 				out.status = MinPlateStepTiny
 				return out
 			}
@@ -167,7 +171,7 @@ func minPlateMinimize(x0 [2]float32, lim MinPlateLimits) minPlateOutcome {
 		}
 		dir.compute(&g, &d)
 		now := minPlateDot(&g, &d)
-		if !(now < 0) {
+		if !(now < 0) || !minPlateFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
 			dir.compute(&g, &d)
 			now = minPlateDot(&g, &d)
@@ -176,7 +180,7 @@ func minPlateMinimize(x0 [2]float32, lim MinPlateLimits) minPlateOutcome {
 		if out.iterations > 0 {
 			first = dir.firstTrial(t, slope, now)
 		}
-		tiny := lim.Step * (minPlateMaxAbs(&x) + 1) / minPlateMaxAbs(&d) // steps t ≤ tiny pass the step test
+		tiny := minPlateTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
 		found := minPlateLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt)
 		out.evaluations += found.calls
 		switch found.end {
@@ -186,13 +190,19 @@ func minPlateMinimize(x0 [2]float32, lim MinPlateLimits) minPlateOutcome {
 			out.status = MinPlateNoAcceptableStep
 			return out
 		case minPlateSearchTiny:
-			out.status = MinPlateStepTiny
+			out.status = MinPlateNoDecrease
+			return out
+		}
+		if !minPlateFiniteVec(&xt) {
+			out.status = MinPlateNoAcceptableStep // the accepted trial overflowed x
 			return out
 		}
 		if !found.gradient {
 			if out.evaluations+minPlateDerivativeCost > lim.Evaluations {
-				out.x, out.f = xt, found.value // keep the better point even without its gradient
-				out.iterations++
+				if found.value < fx { // keep a better point even without its gradient
+					out.x, out.f = xt, found.value
+					out.iterations++
+				}
 				return out
 			}
 			minPlateDerivative(&xt, found.value, &gt)
@@ -297,6 +307,18 @@ func minPlateAbs(v float32) float32 {
 	return v
 }
 
+// minPlateStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func minPlateStepWithin(s, x *[2]float32, tol float32) bool {
+	for i := range s {
+		if !(minPlateAbs(s[i]) <= tol*(minPlateAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
+}
+
 // minPlateDot returns aᵀb.
 func minPlateDot(a, b *[2]float32) float32 {
 	var s float32
@@ -304,6 +326,20 @@ func minPlateDot(a, b *[2]float32) float32 {
 		s += a[i] * b[i]
 	}
 	return s
+}
+
+// minPlateTinyStep returns the longest t for which the step t·d from x passes the
+// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+func minPlateTinyStep(x, d *[2]float32, tol float32) float32 {
+	tiny := float32(-1)
+	for i := range x {
+		if d[i] != 0 {
+			if t := tol * (minPlateAbs(x[i]) + 1) / minPlateAbs(d[i]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+	}
+	return tiny
 }
 
 // minPlateLineSearch always takes the step minPlateStepInitial, whatever it does to f; only
@@ -339,7 +375,7 @@ const (
 	minPlateSearchAccepted    minPlateSearchEnd = iota // a step met the rule
 	minPlateSearchExhausted                            // stepTrials trials met none
 	minPlateSearchOutOfBudget                          // the evaluation cap came first
-	minPlateSearchTiny                                 // every step longer than tiny failed: x is converged to the step limit
+	minPlateSearchTiny                                 // every step longer than tiny failed to decrease f
 )
 
 // minPlateMoveTo sets out = x + t·d.
