@@ -217,7 +217,10 @@ var badSpecs = []struct {
 		"17:13: expect.tolerance must be a positive number, got -1e-06",
 	}},
 	{"expect_without_x.toml", []string{
-		"6:2: expect needs x, the expected minimizer",
+		"6:2: expect needs x, the expected minimizer, or status, the expected end",
+	}},
+	{"expect_status_unknown.toml", []string{
+		`7:10: expect.status "diverged" is not one of "gradient small", "step tiny", "out of iterations", "out of evaluations", "no acceptable step", "non-finite start", "non-finite gradient", "no decrease"`,
 	}},
 
 	// Minimizers written as inline tables keep value positions.

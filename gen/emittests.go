@@ -42,30 +42,38 @@ func EmitTests(w io.Writer, p *Plan) error {
 		return []jen.Code{jen.Id("recv").Op(":=").Id(helper + "Receiver").Call()}
 	}
 
-	// Convergence from start, and expect.
+	// Convergence from start (or the expected status), and expect.x.
+	testName, statusTest, doc := "Test"+name+"Converges", jen.Op("!").Id("r").Dot("Status").Dot("Converged").Call(), "asks for convergence"
+	if e := p.M.Expect; e != nil && e.Status != nil {
+		testName = "Test" + name + "EndsWith" + e.Status.suffix
+		statusTest = jen.Id("r").Dot("Status").Op("!=").Id(name + e.Status.suffix)
+		doc = fmt.Sprintf("asks for the status %q that expect.status names", e.Status.text)
+	}
 	body := append(setup(),
 		jen.Id("r").Op(":=").Add(call(false)),
-		jen.If(jen.Op("!").Id("r").Dot("Status").Dot("Converged").Call()).Block(
+		jen.If(statusTest).Block(
 			jen.Id("t").Dot("Fatalf").Call(jen.Lit("status %v after %d iterations and %d evaluations, f = %g, x = %v"),
 				jen.Id("r").Dot("Status"), jen.Id("r").Dot("Iterations"), jen.Id("r").Dot("Evaluations"), jen.Id("r").Dot("F"), jen.Id("r").Dot("X")),
 		),
 	)
-	if e := p.M.Expect; e != nil {
+	if e := p.M.Expect; e != nil && e.X != nil {
+		doc += ", then for x within expect.tolerance of expect.x (NaN fails)"
+		tol := jen.Op(formatFloat(e.Tolerance))
 		body = append(body, jen.Id("want").Op(":=").Add(literal(p, e.X)))
 		if p.Shape.Scalar() {
-			body = append(body, jen.If(jen.Qual("math", "Abs").Call(jen.Id("float64").Call(jen.Id("r").Dot("X").Op("-").Id("want"))).Op(">").Op(formatFloat(e.Tolerance))).Block(
-				jen.Id("t").Dot("Errorf").Call(jen.Lit("x = %v, want %v within %g"), jen.Id("r").Dot("X"), jen.Id("want"), jen.Op(formatFloat(e.Tolerance))),
+			body = append(body, jen.If(jen.Op("!").Parens(jen.Qual("math", "Abs").Call(jen.Id("float64").Call(jen.Id("r").Dot("X").Op("-").Id("want"))).Op("<=").Add(tol))).Block(
+				jen.Id("t").Dot("Errorf").Call(jen.Lit("x = %v, want %v within %g"), jen.Id("r").Dot("X"), jen.Id("want"), tol.Clone()),
 			))
 		} else {
 			body = append(body, jen.For(jen.Id("i").Op(":=").Range().Id("want")).Block(
-				jen.If(jen.Qual("math", "Abs").Call(jen.Id("float64").Call(jen.Id("r").Dot("X").Index(jen.Id("i")).Op("-").Id("want").Index(jen.Id("i")))).Op(">").Op(formatFloat(e.Tolerance))).Block(
-					jen.Id("t").Dot("Errorf").Call(jen.Lit("x = %v, want %v within %g"), jen.Id("r").Dot("X"), jen.Id("want"), jen.Op(formatFloat(e.Tolerance))),
+				jen.If(jen.Op("!").Parens(jen.Qual("math", "Abs").Call(jen.Id("float64").Call(jen.Id("r").Dot("X").Index(jen.Id("i")).Op("-").Id("want").Index(jen.Id("i")))).Op("<=").Add(tol))).Block(
+					jen.Id("t").Dot("Errorf").Call(jen.Lit("x = %v, want %v within %g"), jen.Id("r").Dot("X"), jen.Id("want"), tol.Clone()),
 				),
 			))
 		}
 	}
-	f.Commentf("Test%sConverges runs %s from the spec's start and asks for convergence%s.", name, name, map[bool]string{true: " to expect.x", false: ""}[p.M.Expect != nil])
-	f.Func().Id("Test" + name + "Converges").Params(jen.Id("t").Op("*").Qual("testing", "T")).Block(body...)
+	f.Commentf("%s runs %s from the spec's start and %s.", testName, name, doc)
+	f.Func().Id(testName).Params(jen.Id("t").Op("*").Qual("testing", "T")).Block(body...)
 
 	// Zero allocations.
 	f.Commentf("Test%sAllocatesNothing proves a whole run makes no heap allocation.", name)

@@ -65,6 +65,7 @@ type boundsSpec struct {
 type expectSpec struct {
 	X         any      `toml:"x"`
 	Tolerance *float64 `toml:"tolerance"`
+	Status    *string  `toml:"status"`
 }
 
 // Spec is one parsed spec file: where it is, which package directory it
@@ -112,10 +113,13 @@ type StopLimits struct {
 	Iterations, Evaluations int
 }
 
-// Expect is the spec's expected minimizer, checked by the generated test.
+// Expect is what the generated test asserts about the run from start: the
+// minimizer X (when given) within Tolerance, and the final status (when
+// given; otherwise any converged one).
 type Expect struct {
 	X         []float64
 	Tolerance float64
+	Status    *statusInfo
 }
 
 // ParseSpec reads and validates a spec file. Errors carry the spec's
@@ -307,8 +311,22 @@ func validateMinimizer(ms *minimizerSpec, i int, ix *positions, probs *Problems)
 	if ms.Expect != nil {
 		m.expectX = ms.Expect.X
 		m.Expect = &Expect{Tolerance: 1e-6}
-		if ms.Expect.X == nil {
-			probs.add(ix.key(key+".expect"), "expect needs x, the expected minimizer")
+		if ms.Expect.X == nil && ms.Expect.Status == nil {
+			probs.add(ix.key(key+".expect"), "expect needs x, the expected minimizer, or status, the expected end")
+		}
+		if ms.Expect.Status != nil {
+			for i := range statuses {
+				if statuses[i].text == *ms.Expect.Status {
+					m.Expect.Status = &statuses[i]
+				}
+			}
+			if m.Expect.Status == nil {
+				var texts []string
+				for _, s := range statuses {
+					texts = append(texts, s.text)
+				}
+				probs.add(at("expect.status"), "expect.status %q is not one of %s", *ms.Expect.Status, quoteList(texts))
+			}
 		}
 		if ms.Expect.Tolerance != nil {
 			t := *ms.Expect.Tolerance

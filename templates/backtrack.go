@@ -24,9 +24,10 @@ func fixedStep(recv *receiver, x *vec, fx elem, d *vec, slope, first, tiny elem,
 func decreaseSearch(recv *receiver, x *vec, fx elem, d *vec, slope, first, tiny elem, budget int, xt, gt *vec) lineResult {
 	t := first
 	var previous, fPrevious elem
+	flat := false
 	for trial := 0; trial < stepTrials; trial++ {
 		if trial > 0 && t <= tiny {
-			return lineResult{calls: trial, end: tinyOrExhausted(finite(fPrevious))}
+			return lineResult{calls: trial, flat: flat, end: tinyOrExhausted(finite(fPrevious))}
 		}
 		if trial >= budget {
 			return lineResult{calls: trial, end: searchOutOfBudget}
@@ -36,6 +37,7 @@ func decreaseSearch(recv *receiver, x *vec, fx elem, d *vec, slope, first, tiny 
 		if finite(ft) && ft < fx {
 			return lineResult{step: t, value: ft, calls: trial + 1, end: searchAccepted}
 		}
+		flat = flat || finite(ft) && flatTrial(fx, ft, t, slope)
 		t, previous, fPrevious = backtrackTrial(fx, slope, t, ft, previous, fPrevious), t, ft
 	}
 	return lineResult{calls: stepTrials, end: searchExhausted}
@@ -57,9 +59,10 @@ func decreaseSearch(recv *receiver, x *vec, fx elem, d *vec, slope, first, tiny 
 func armijoSearch(recv *receiver, x *vec, fx elem, d *vec, slope, first, tiny elem, budget int, xt, gt *vec) lineResult {
 	t := first
 	var previous, fPrevious elem
+	flat := false
 	for trial := 0; trial < stepTrials; trial++ {
 		if trial > 0 && t <= tiny {
-			return lineResult{calls: trial, end: tinyOrExhausted(finite(fPrevious))}
+			return lineResult{calls: trial, flat: flat, end: tinyOrExhausted(finite(fPrevious))}
 		}
 		if trial >= budget {
 			return lineResult{calls: trial, end: searchOutOfBudget}
@@ -69,6 +72,7 @@ func armijoSearch(recv *receiver, x *vec, fx elem, d *vec, slope, first, tiny el
 		if finite(ft) && ft <= fx+stepDecrease*t*slope { // N&W eq. 3.4
 			return lineResult{step: t, value: ft, calls: trial + 1, end: searchAccepted}
 		}
+		flat = flat || finite(ft) && flatTrial(fx, ft, t, slope)
 		t, previous, fPrevious = backtrackTrial(fx, slope, t, ft, previous, fPrevious), t, ft
 	}
 	return lineResult{calls: stepTrials, end: searchExhausted}

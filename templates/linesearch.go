@@ -16,7 +16,29 @@ type lineResult struct {
 	value    elem      // f(x + t·d)
 	calls    int       // objective calls spent, finite differences included
 	gradient bool      // whether gt holds ∇f(x + t·d) already
+	flat     bool      // whether a failed trial found f flat along d (see flatTrial)
 	end      searchEnd // how the search ended
+}
+
+// flatTrial reports whether a failed trial t found f flat along d, to
+// the accuracy the gradient and f allow, so that no decrease can be
+// expected from any step:
+//
+//   - the change f(x + t·d) − f(x) = ft − fx is at most half the
+//     first-order prediction t·∇fᵀd in size: near a minimizer whose
+//     gradient is known only roughly (differences), the true slope along
+//     d is below that accuracy. A wrong gradient makes f rise about as
+//     fast as it predicts a fall, and never passes. This is the ratio of
+//     actual to predicted reduction of trust-region methods (Nocedal &
+//     Wright 2006, eq. 4.4);
+//   - or the prediction itself, |t·∇fᵀd|, is below the rounding unit of
+//     f, u·|f(x)|: no change that small can show in floating point, so x
+//     is a minimizer to working precision (Dennis & Schnabel 1983, §7.2,
+//     relate the gradient test to the precision of f; recalled from
+//     memory).
+func flatTrial(fx, ft, t, slope elem) bool {
+	predicted := abs(t * slope)
+	return abs(ft-fx) <= 0.5*predicted || predicted <= unitRoundoff*abs(fx)
 }
 
 // lineSearch looks along d from x, where f(x) = fx and the slope

@@ -222,10 +222,10 @@ func TestDifferencesMatchAnalytic(t *testing.T) {
 // At an exact minimizer, forward differences still report a gradient of
 // size about h times the second derivative (Nocedal & Wright 2006, §8.1),
 // above a tight gradient limit, and no step can decrease f. Every rule
-// must then stop with no-decrease, which is not convergence, after
-// evaluating at least one trial, and keep x: backtracking and bracketing
-// stop once only steps below the step limit are left.
-func TestExactMinimumWithNoisyGradientEndsWithoutDecrease(t *testing.T) {
+// must then stop converged on the step limit, after evaluating at least
+// one trial, and keep x: f is flat along d at the step limit, far flatter
+// than the noisy gradient predicts (see flatOrNoDecrease).
+func TestExactMinimumWithNoisyGradientStopsOnStep(t *testing.T) {
 	for _, p := range everyPolicy() {
 		if p.source != sourceForward {
 			continue
@@ -236,11 +236,36 @@ func TestExactMinimumWithNoisyGradientEndsWithoutDecrease(t *testing.T) {
 			lim.Gradient = 1e-12
 			lim.Step = 1e-10
 			out := minimize(ellipse(), vec{3, -1}, lim)
-			if out.status != statusNoDecrease || out.evaluations <= 1+derivativeCost {
-				t.Fatalf("status %d after %d evaluations, want no decrease after a trial", out.status, out.evaluations)
+			if out.status != statusStepTiny || out.evaluations <= 1+derivativeCost {
+				t.Fatalf("status %d after %d evaluations, want step tiny after a trial", out.status, out.evaluations)
 			}
 			if out.x != (vec{3, -1}) || out.f != 0 {
 				t.Errorf("x = %v, f = %g; want the exact minimizer kept", out.x, out.f)
+			}
+		})
+	}
+}
+
+// A wrong analytic gradient (the sign of ∂f/∂x₁ flipped on f = x₁² + x₂²)
+// makes every step "downhill" go uphill. No rule may claim convergence:
+// f rises as fast as the gradient says it falls, so the line search ends
+// with no decrease or no acceptable step, never step tiny.
+func TestWrongGradientNeverConverges(t *testing.T) {
+	for _, p := range everyPolicy() {
+		if p.source != sourceAnalytic {
+			continue
+		}
+		t.Run(p.String(), func(t *testing.T) {
+			p.use(t)
+			recv := &receiver{
+				valueFunc:    func(x *vec) elem { return x[0]*x[0] + x[1]*x[1] },
+				gradientFunc: func(x, g *vec) { g[0], g[1] = -2*x[0], 2*x[1] },
+			}
+			lim := defaultLimits()
+			lim.Step = 1e-6
+			out := minimize(recv, vec{1, 0.1}, lim)
+			if out.status == statusStepTiny || out.status == statusGradientSmall {
+				t.Fatalf("status %d (converged) at x = %v after %d iterations, from a wrong gradient", out.status, out.x, out.iterations)
 			}
 		})
 	}

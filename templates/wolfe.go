@@ -34,6 +34,7 @@ func wolfeSearch(recv *receiver, x *vec, fx elem, d *vec, slope, first, tiny ele
 	var high linePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient vec                                       // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	flat := false // whether a trial failing sufficient decrease found f flat
 	t := first
 	calls := 0
 	for trial := 0; trial < stepTrials; trial++ {
@@ -42,14 +43,11 @@ func wolfeSearch(recv *receiver, x *vec, fx elem, d *vec, slope, first, tiny ele
 			// decreased f; else no step decreased f, unless f was not
 			// finite there.
 			if low.step == 0 {
-				return lineResult{calls: calls, end: tinyOrExhausted(finite(high.value))}
+				return lineResult{calls: calls, flat: flat, end: tinyOrExhausted(finite(high.value))}
 			}
 			return acceptLow(x, d, &low, &lowGradient, calls, xt, gt)
 		}
 		if calls >= budget {
-			if low.step > 0 {
-				return acceptLow(x, d, &low, &lowGradient, calls, xt, gt) // keep the decrease already paid for
-			}
 			return lineResult{calls: calls, end: searchOutOfBudget}
 		}
 		moveTo(xt, x, t, d)
@@ -58,11 +56,9 @@ func wolfeSearch(recv *receiver, x *vec, fx elem, d *vec, slope, first, tiny ele
 		previous := low
 		if !finite(current.value) || current.value > fx+stepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
+			flat = flat || finite(current.value) && flatTrial(fx, current.value, t, slope)
 		} else {
 			if calls+derivativeCost > budget {
-				if low.step > 0 {
-					return acceptLow(x, d, &low, &lowGradient, calls, xt, gt)
-				}
 				return lineResult{calls: calls, end: searchOutOfBudget}
 			}
 			derivative(recv, xt, current.value, gt)
@@ -94,8 +90,10 @@ func wolfeSearch(recv *receiver, x *vec, fx elem, d *vec, slope, first, tiny ele
 }
 
 // acceptLow ends a Wolfe search with its best trial, which met sufficient
-// decrease though not the curvature condition: the bracket collapsed, the
-// trials ran out or the budget did. Its gradient was kept in lowGradient.
+// decrease though not the curvature condition, when the bracket collapsed
+// or the trials ran out. Its gradient was kept in lowGradient. (When the
+// budget runs out the search ends without a step instead, so that a capped
+// run follows the uncapped run's path up to the cap.)
 func acceptLow(x, d *vec, low *linePoint, lowGradient *vec, calls int, xt, gt *vec) lineResult {
 	moveTo(xt, x, low.step, d)
 	*gt = *lowGradient

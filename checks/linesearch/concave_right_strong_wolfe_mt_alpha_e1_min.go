@@ -10,18 +10,20 @@ type ConcaveRightStrongWolfeMTAlphaE1Status uint8
 const (
 	// ConcaveRightStrongWolfeMTAlphaE1GradientSmall: the largest gradient component fell to the gradient limit: converged.
 	ConcaveRightStrongWolfeMTAlphaE1GradientSmall ConcaveRightStrongWolfeMTAlphaE1Status = iota + 1
-	// ConcaveRightStrongWolfeMTAlphaE1StepTiny: the last step was at most the step limit relative to ‖x‖∞ + 1: converged.
+	// ConcaveRightStrongWolfeMTAlphaE1StepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f while f was flat to the accuracy of the gradient (always so with finite differences): converged.
 	ConcaveRightStrongWolfeMTAlphaE1StepTiny
 	// ConcaveRightStrongWolfeMTAlphaE1OutOfIterations: the iteration limit came first.
 	ConcaveRightStrongWolfeMTAlphaE1OutOfIterations
 	// ConcaveRightStrongWolfeMTAlphaE1OutOfEvaluations: the next objective call would have exceeded the evaluation cap.
 	ConcaveRightStrongWolfeMTAlphaE1OutOfEvaluations
-	// ConcaveRightStrongWolfeMTAlphaE1NoAcceptableStep: no trial of the line search met the step rule within its trials.
+	// ConcaveRightStrongWolfeMTAlphaE1NoAcceptableStep: no trial of the line search met the step rule at a finite point within its trials.
 	ConcaveRightStrongWolfeMTAlphaE1NoAcceptableStep
 	// ConcaveRightStrongWolfeMTAlphaE1NonFiniteStart: x0 or the objective at x0 is NaN or ±Inf.
 	ConcaveRightStrongWolfeMTAlphaE1NonFiniteStart
 	// ConcaveRightStrongWolfeMTAlphaE1NonFiniteGradient: a gradient component became NaN or ±Inf.
 	ConcaveRightStrongWolfeMTAlphaE1NonFiniteGradient
+	// ConcaveRightStrongWolfeMTAlphaE1NoDecrease: no step longer than the step limit decreased f, and f rose about as fast as the analytic gradient said it would fall: the gradient is probably wrong (see the generated gradient test).
+	ConcaveRightStrongWolfeMTAlphaE1NoDecrease
 )
 
 // String describes the status in a few words.
@@ -41,6 +43,8 @@ func (s ConcaveRightStrongWolfeMTAlphaE1Status) String() string {
 		return "non-finite start"
 	case ConcaveRightStrongWolfeMTAlphaE1NonFiniteGradient:
 		return "non-finite gradient"
+	case ConcaveRightStrongWolfeMTAlphaE1NoDecrease:
+		return "no decrease"
 	default:
 		return "unknown status"
 	}
@@ -63,7 +67,7 @@ type ConcaveRightStrongWolfeMTAlphaE1Result struct {
 // ConcaveRightStrongWolfeMTAlphaE1Limits are the stop limits of one run. Pass them to ConcaveRightStrongWolfeMTAlphaE1WithLimits to change them at run time; ConcaveRightStrongWolfeMTAlphaE1DefaultLimits returns the spec's.
 type ConcaveRightStrongWolfeMTAlphaE1Limits struct {
 	Gradient    float64 // stop when the largest |∂f/∂xᵢ| is at most this
-	Step        float64 // stop when the largest |Δxᵢ| is at most this·(‖x‖∞ + 1)
+	Step        float64 // stop when every |Δxᵢ| is at most this·(|xᵢ| + 1)
 	Iterations  int     // most accepted steps
 	Evaluations int     // hard cap on objective calls, finite differences included; never exceeded
 }
@@ -84,7 +88,7 @@ func ConcaveRightStrongWolfeMTAlphaE1DefaultLimits() ConcaveRightStrongWolfeMTAl
 // Step rule strong-wolfe: bracket and zoom until sufficient decrease and the strong curvature condition hold.
 // Derivative analytic: the user's own gradient function (spec key `gradient`); costs no objective calls.
 // Constants: initial 20.0, c1 0.001, c2 0.1, at most 40 trials per line search.
-// Default stop: largest gradient component ≤ 1e-08, step ≤ 1e-14·(‖x‖∞ + 1), 500 iterations, 10000 objective calls.
+// Default stop: largest gradient component ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 500 iterations, 10000 objective calls.
 //
 // Worst case: 10000 objective calls (the evaluation cap; the iteration limit alone would allow 20001). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
@@ -106,11 +110,12 @@ func ConcaveRightStrongWolfeMTAlphaE1WithLimits(x0 float64, limits ConcaveRightS
 
 // Tunables of ConcaveRightStrongWolfeMTAlphaE1 from linesearch.toml; the kernels below read them.
 const (
-	concaveRightStrongWolfeMTAlphaE1StepInitial    = 20.0  // step.initial
-	concaveRightStrongWolfeMTAlphaE1StepDecrease   = 0.001 // step.decrease (c1)
-	concaveRightStrongWolfeMTAlphaE1StepCurvature  = 0.1   // step.curvature (c2)
-	concaveRightStrongWolfeMTAlphaE1StepTrials     = 40    // step.trials
-	concaveRightStrongWolfeMTAlphaE1DerivativeCost = 0     // objective calls per gradient
+	concaveRightStrongWolfeMTAlphaE1StepInitial    = 20.0                   // step.initial
+	concaveRightStrongWolfeMTAlphaE1StepDecrease   = 0.001                  // step.decrease (c1)
+	concaveRightStrongWolfeMTAlphaE1StepCurvature  = 0.1                    // step.curvature (c2)
+	concaveRightStrongWolfeMTAlphaE1StepTrials     = 40                     // step.trials
+	concaveRightStrongWolfeMTAlphaE1DerivativeCost = 0                      // objective calls per gradient
+	concaveRightStrongWolfeMTAlphaE1UnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
 )
 
 // concaveRightStrongWolfeMTAlphaE1Minimize runs the descent loop from x0 within lim:
@@ -120,9 +125,11 @@ const (
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
 //  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged);
+//     steps shorter than the step limit are left to try (converged when
+//     f was flat along d or the gradient is a difference, else no
+//     decrease);
 //  5. move, refresh the gradient, let the direction learn from the step;
-//  6. stop when the step is at most lim.Step·(‖x‖∞ + 1).
+//  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
 //
 // Before every objective call it checks that lim.Evaluations leaves room
 // for it, so the cap is never exceeded. A NaN or ±Inf at the start or in a
@@ -160,7 +167,7 @@ func concaveRightStrongWolfeMTAlphaE1Minimize(x0 [1]float64, lim ConcaveRightStr
 			return out
 		}
 		if out.iterations > 0 {
-			if concaveRightStrongWolfeMTAlphaE1MaxAbs(&s) <= lim.Step*(concaveRightStrongWolfeMTAlphaE1MaxAbs(&x)+1) {
+			if concaveRightStrongWolfeMTAlphaE1StepWithin(&s, &x, lim.Step) {
 				out.status = ConcaveRightStrongWolfeMTAlphaE1StepTiny
 				return out
 			}
@@ -172,7 +179,7 @@ func concaveRightStrongWolfeMTAlphaE1Minimize(x0 [1]float64, lim ConcaveRightStr
 		}
 		dir.compute(&g, &d)
 		now := concaveRightStrongWolfeMTAlphaE1Dot(&g, &d)
-		if !(now < 0) {
+		if !(now < 0) || !concaveRightStrongWolfeMTAlphaE1FiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
 			dir.compute(&g, &d)
 			now = concaveRightStrongWolfeMTAlphaE1Dot(&g, &d)
@@ -181,7 +188,7 @@ func concaveRightStrongWolfeMTAlphaE1Minimize(x0 [1]float64, lim ConcaveRightStr
 		if out.iterations > 0 {
 			first = dir.firstTrial(t, slope, now)
 		}
-		tiny := lim.Step * (concaveRightStrongWolfeMTAlphaE1MaxAbs(&x) + 1) / concaveRightStrongWolfeMTAlphaE1MaxAbs(&d) // steps t ≤ tiny pass the step test
+		tiny := concaveRightStrongWolfeMTAlphaE1TinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
 		found := concaveRightStrongWolfeMTAlphaE1LineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt)
 		out.evaluations += found.calls
 		switch found.end {
@@ -191,13 +198,27 @@ func concaveRightStrongWolfeMTAlphaE1Minimize(x0 [1]float64, lim ConcaveRightStr
 			out.status = ConcaveRightStrongWolfeMTAlphaE1NoAcceptableStep
 			return out
 		case concaveRightStrongWolfeMTAlphaE1SearchTiny:
-			out.status = ConcaveRightStrongWolfeMTAlphaE1StepTiny
+			// Converged to the step limit when f was flat along d to the
+			// accuracy available (see concaveRightStrongWolfeMTAlphaE1FlatTrial), and always with finite
+			// differences: their error, not the true slope, then steers d,
+			// so x is stationary to the accuracy of the differences. With
+			// an analytic gradient that f contradicts, it is not.
+			out.status = ConcaveRightStrongWolfeMTAlphaE1NoDecrease
+			if found.flat || concaveRightStrongWolfeMTAlphaE1DerivativeCost > 0 {
+				out.status = ConcaveRightStrongWolfeMTAlphaE1StepTiny
+			}
+			return out
+		}
+		if !concaveRightStrongWolfeMTAlphaE1FiniteVec(&xt) {
+			out.status = ConcaveRightStrongWolfeMTAlphaE1NoAcceptableStep // the accepted trial overflowed x
 			return out
 		}
 		if !found.gradient {
 			if out.evaluations+concaveRightStrongWolfeMTAlphaE1DerivativeCost > lim.Evaluations {
-				out.x, out.f = xt, found.value // keep the better point even without its gradient
-				out.iterations++
+				if found.value < fx { // keep a better point even without its gradient
+					out.x, out.f = xt, found.value
+					out.iterations++
+				}
 				return out
 			}
 			concaveRightStrongWolfeMTAlphaE1Derivative(&xt, found.value, &gt)
@@ -302,6 +323,18 @@ func concaveRightStrongWolfeMTAlphaE1Abs(v float64) float64 {
 	return v
 }
 
+// concaveRightStrongWolfeMTAlphaE1StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func concaveRightStrongWolfeMTAlphaE1StepWithin(s, x *[1]float64, tol float64) bool {
+	for i := range s {
+		if !(concaveRightStrongWolfeMTAlphaE1Abs(s[i]) <= tol*(concaveRightStrongWolfeMTAlphaE1Abs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
+}
+
 // concaveRightStrongWolfeMTAlphaE1Dot returns aᵀb.
 func concaveRightStrongWolfeMTAlphaE1Dot(a, b *[1]float64) float64 {
 	var s float64
@@ -309,6 +342,20 @@ func concaveRightStrongWolfeMTAlphaE1Dot(a, b *[1]float64) float64 {
 		s += a[i] * b[i]
 	}
 	return s
+}
+
+// concaveRightStrongWolfeMTAlphaE1TinyStep returns the longest t for which the step t·d from x passes the
+// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+func concaveRightStrongWolfeMTAlphaE1TinyStep(x, d *[1]float64, tol float64) float64 {
+	tiny := float64(-1)
+	for i := range x {
+		if d[i] != 0 {
+			if t := tol * (concaveRightStrongWolfeMTAlphaE1Abs(x[i]) + 1) / concaveRightStrongWolfeMTAlphaE1Abs(d[i]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+	}
+	return tiny
 }
 
 // concaveRightStrongWolfeMTAlphaE1LineSearch finds a step meeting the Wolfe conditions
@@ -338,22 +385,18 @@ func concaveRightStrongWolfeMTAlphaE1LineSearch(x *[1]float64, fx float64, d *[1
 	var high concaveRightStrongWolfeMTAlphaE1LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                                // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	flat := false // whether a trial failing sufficient decrease found f flat
 	t := first
 	calls := 0
 	for trial := 0; trial < concaveRightStrongWolfeMTAlphaE1StepTrials; trial++ {
 		if bracketed && concaveRightStrongWolfeMTAlphaE1Abs(high.step-low.step) <= tiny {
 			// The bracket is below the step limit: take low when it
-			// decreased f; else x is converged to the step limit, unless
-			// f was not finite there.
+			// decreased f; else no step decreased f, unless f was not
+			// finite there.
 			if low.step == 0 {
-				return concaveRightStrongWolfeMTAlphaE1LineResult{calls: calls, end: concaveRightStrongWolfeMTAlphaE1TinyOrExhausted(concaveRightStrongWolfeMTAlphaE1Finite(high.value))}
+				return concaveRightStrongWolfeMTAlphaE1LineResult{calls: calls, flat: flat, end: concaveRightStrongWolfeMTAlphaE1TinyOrExhausted(concaveRightStrongWolfeMTAlphaE1Finite(high.value))}
 			}
-			concaveRightStrongWolfeMTAlphaE1MoveTo(xt, x, low.step, d)
-			*gt = lowGradient
-			return concaveRightStrongWolfeMTAlphaE1LineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: concaveRightStrongWolfeMTAlphaE1SearchAccepted}
-		}
-		if !bracketed && t <= tiny {
-			return concaveRightStrongWolfeMTAlphaE1LineResult{calls: calls, end: concaveRightStrongWolfeMTAlphaE1SearchTiny}
+			return concaveRightStrongWolfeMTAlphaE1AcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
 		}
 		if calls >= budget {
 			return concaveRightStrongWolfeMTAlphaE1LineResult{calls: calls, end: concaveRightStrongWolfeMTAlphaE1SearchOutOfBudget}
@@ -364,6 +407,7 @@ func concaveRightStrongWolfeMTAlphaE1LineSearch(x *[1]float64, fx float64, d *[1
 		previous := low
 		if !concaveRightStrongWolfeMTAlphaE1Finite(current.value) || current.value > fx+concaveRightStrongWolfeMTAlphaE1StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
+			flat = flat || concaveRightStrongWolfeMTAlphaE1Finite(current.value) && concaveRightStrongWolfeMTAlphaE1FlatTrial(fx, current.value, t, slope)
 		} else {
 			if calls+concaveRightStrongWolfeMTAlphaE1DerivativeCost > budget {
 				return concaveRightStrongWolfeMTAlphaE1LineResult{calls: calls, end: concaveRightStrongWolfeMTAlphaE1SearchOutOfBudget}
@@ -390,6 +434,9 @@ func concaveRightStrongWolfeMTAlphaE1LineSearch(x *[1]float64, fx float64, d *[1
 			t = concaveRightStrongWolfeMTAlphaE1ExpandTrial(&previous, &current)
 		}
 	}
+	if low.step > 0 {
+		return concaveRightStrongWolfeMTAlphaE1AcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+	}
 	return concaveRightStrongWolfeMTAlphaE1LineResult{calls: calls, end: concaveRightStrongWolfeMTAlphaE1SearchExhausted}
 }
 
@@ -399,6 +446,7 @@ type concaveRightStrongWolfeMTAlphaE1LineResult struct {
 	value    float64                                   // f(x + t·d)
 	calls    int                                       // objective calls spent, finite differences included
 	gradient bool                                      // whether gt holds ∇f(x + t·d) already
+	flat     bool                                      // whether a failed trial found f flat along d (see concaveRightStrongWolfeMTAlphaE1FlatTrial)
 	end      concaveRightStrongWolfeMTAlphaE1SearchEnd // how the search ended
 }
 
@@ -412,10 +460,10 @@ type concaveRightStrongWolfeMTAlphaE1LinePoint struct {
 	hasSlope           bool
 }
 
-// concaveRightStrongWolfeMTAlphaE1TinyOrExhausted ends a search that has run below the step limit: x is
-// converged to the step limit when the last failure was a finite increase
-// of f, but a non-finite value says nothing about f near x, so the search
-// has simply failed.
+// concaveRightStrongWolfeMTAlphaE1TinyOrExhausted ends a search that has run below the step limit: no
+// decrease was found when the last failure was a finite value, but a
+// non-finite value says nothing about f near x, so the search has simply
+// failed.
 func concaveRightStrongWolfeMTAlphaE1TinyOrExhausted(lastFinite bool) concaveRightStrongWolfeMTAlphaE1SearchEnd {
 	if lastFinite {
 		return concaveRightStrongWolfeMTAlphaE1SearchTiny
@@ -427,14 +475,46 @@ const (
 	concaveRightStrongWolfeMTAlphaE1SearchAccepted    concaveRightStrongWolfeMTAlphaE1SearchEnd = iota // a step met the rule
 	concaveRightStrongWolfeMTAlphaE1SearchExhausted                                                    // concaveRightStrongWolfeMTAlphaE1StepTrials trials met none
 	concaveRightStrongWolfeMTAlphaE1SearchOutOfBudget                                                  // the evaluation cap came first
-	concaveRightStrongWolfeMTAlphaE1SearchTiny                                                         // every step longer than tiny failed: x is converged to the step limit
+	concaveRightStrongWolfeMTAlphaE1SearchTiny                                                         // every step longer than tiny failed to decrease f
 )
+
+// concaveRightStrongWolfeMTAlphaE1AcceptLow ends a Wolfe search with its best trial, which met sufficient
+// decrease though not the curvature condition, when the bracket collapsed
+// or the trials ran out. Its gradient was kept in lowGradient. (When the
+// budget runs out the search ends without a step instead, so that a capped
+// run follows the uncapped run's path up to the cap.)
+func concaveRightStrongWolfeMTAlphaE1AcceptLow(x, d *[1]float64, low *concaveRightStrongWolfeMTAlphaE1LinePoint, lowGradient *[1]float64, calls int, xt, gt *[1]float64) concaveRightStrongWolfeMTAlphaE1LineResult {
+	concaveRightStrongWolfeMTAlphaE1MoveTo(xt, x, low.step, d)
+	*gt = *lowGradient
+	return concaveRightStrongWolfeMTAlphaE1LineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: concaveRightStrongWolfeMTAlphaE1SearchAccepted}
+}
 
 // concaveRightStrongWolfeMTAlphaE1MoveTo sets out = x + t·d.
 func concaveRightStrongWolfeMTAlphaE1MoveTo(out, x *[1]float64, t float64, d *[1]float64) {
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
+}
+
+// concaveRightStrongWolfeMTAlphaE1FlatTrial reports whether a failed trial t found f flat along d, to
+// the accuracy the gradient and f allow, so that no decrease can be
+// expected from any step:
+//
+//   - the change f(x + t·d) − f(x) = ft − fx is at most half the
+//     first-order prediction t·∇fᵀd in size: near a minimizer whose
+//     gradient is known only roughly (differences), the true slope along
+//     d is below that accuracy. A wrong gradient makes f rise about as
+//     fast as it predicts a fall, and never passes. This is the ratio of
+//     actual to predicted reduction of trust-region methods (Nocedal &
+//     Wright 2006, eq. 4.4);
+//   - or the prediction itself, |t·∇fᵀd|, is below the rounding unit of
+//     f, u·|f(x)|: no change that small can show in floating point, so x
+//     is a minimizer to working precision (Dennis & Schnabel 1983, §7.2,
+//     relate the gradient test to the precision of f; recalled from
+//     memory).
+func concaveRightStrongWolfeMTAlphaE1FlatTrial(fx, ft, t, slope float64) bool {
+	predicted := concaveRightStrongWolfeMTAlphaE1Abs(t * slope)
+	return concaveRightStrongWolfeMTAlphaE1Abs(ft-fx) <= 0.5*predicted || predicted <= concaveRightStrongWolfeMTAlphaE1UnitRoundoff*concaveRightStrongWolfeMTAlphaE1Abs(fx)
 }
 
 // concaveRightStrongWolfeMTAlphaE1CurvatureMet is the strong Wolfe curvature condition
@@ -492,7 +572,16 @@ func concaveRightStrongWolfeMTAlphaE1SquareRoot(v float64) float64 {
 // concaveRightStrongWolfeMTAlphaE1ClampBetween returns v limited to the interval with ends a and b, in
 // either order.
 func concaveRightStrongWolfeMTAlphaE1ClampBetween(v, a, b float64) float64 {
-	return max(min(a, b), min(max(a, b), v))
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
 }
 
 // concaveRightStrongWolfeMTAlphaE1ExpandTrial picks a larger trial after current met sufficient decrease

@@ -10,18 +10,20 @@ type ConcaveRightStrongWolfeMTAlphaEm3Status uint8
 const (
 	// ConcaveRightStrongWolfeMTAlphaEm3GradientSmall: the largest gradient component fell to the gradient limit: converged.
 	ConcaveRightStrongWolfeMTAlphaEm3GradientSmall ConcaveRightStrongWolfeMTAlphaEm3Status = iota + 1
-	// ConcaveRightStrongWolfeMTAlphaEm3StepTiny: the last step was at most the step limit relative to ‖x‖∞ + 1: converged.
+	// ConcaveRightStrongWolfeMTAlphaEm3StepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f while f was flat to the accuracy of the gradient (always so with finite differences): converged.
 	ConcaveRightStrongWolfeMTAlphaEm3StepTiny
 	// ConcaveRightStrongWolfeMTAlphaEm3OutOfIterations: the iteration limit came first.
 	ConcaveRightStrongWolfeMTAlphaEm3OutOfIterations
 	// ConcaveRightStrongWolfeMTAlphaEm3OutOfEvaluations: the next objective call would have exceeded the evaluation cap.
 	ConcaveRightStrongWolfeMTAlphaEm3OutOfEvaluations
-	// ConcaveRightStrongWolfeMTAlphaEm3NoAcceptableStep: no trial of the line search met the step rule within its trials.
+	// ConcaveRightStrongWolfeMTAlphaEm3NoAcceptableStep: no trial of the line search met the step rule at a finite point within its trials.
 	ConcaveRightStrongWolfeMTAlphaEm3NoAcceptableStep
 	// ConcaveRightStrongWolfeMTAlphaEm3NonFiniteStart: x0 or the objective at x0 is NaN or ±Inf.
 	ConcaveRightStrongWolfeMTAlphaEm3NonFiniteStart
 	// ConcaveRightStrongWolfeMTAlphaEm3NonFiniteGradient: a gradient component became NaN or ±Inf.
 	ConcaveRightStrongWolfeMTAlphaEm3NonFiniteGradient
+	// ConcaveRightStrongWolfeMTAlphaEm3NoDecrease: no step longer than the step limit decreased f, and f rose about as fast as the analytic gradient said it would fall: the gradient is probably wrong (see the generated gradient test).
+	ConcaveRightStrongWolfeMTAlphaEm3NoDecrease
 )
 
 // String describes the status in a few words.
@@ -41,6 +43,8 @@ func (s ConcaveRightStrongWolfeMTAlphaEm3Status) String() string {
 		return "non-finite start"
 	case ConcaveRightStrongWolfeMTAlphaEm3NonFiniteGradient:
 		return "non-finite gradient"
+	case ConcaveRightStrongWolfeMTAlphaEm3NoDecrease:
+		return "no decrease"
 	default:
 		return "unknown status"
 	}
@@ -63,7 +67,7 @@ type ConcaveRightStrongWolfeMTAlphaEm3Result struct {
 // ConcaveRightStrongWolfeMTAlphaEm3Limits are the stop limits of one run. Pass them to ConcaveRightStrongWolfeMTAlphaEm3WithLimits to change them at run time; ConcaveRightStrongWolfeMTAlphaEm3DefaultLimits returns the spec's.
 type ConcaveRightStrongWolfeMTAlphaEm3Limits struct {
 	Gradient    float64 // stop when the largest |∂f/∂xᵢ| is at most this
-	Step        float64 // stop when the largest |Δxᵢ| is at most this·(‖x‖∞ + 1)
+	Step        float64 // stop when every |Δxᵢ| is at most this·(|xᵢ| + 1)
 	Iterations  int     // most accepted steps
 	Evaluations int     // hard cap on objective calls, finite differences included; never exceeded
 }
@@ -84,7 +88,7 @@ func ConcaveRightStrongWolfeMTAlphaEm3DefaultLimits() ConcaveRightStrongWolfeMTA
 // Step rule strong-wolfe: bracket and zoom until sufficient decrease and the strong curvature condition hold.
 // Derivative analytic: the user's own gradient function (spec key `gradient`); costs no objective calls.
 // Constants: initial 0.002, c1 0.001, c2 0.1, at most 40 trials per line search.
-// Default stop: largest gradient component ≤ 1e-08, step ≤ 1e-14·(‖x‖∞ + 1), 500 iterations, 10000 objective calls.
+// Default stop: largest gradient component ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 500 iterations, 10000 objective calls.
 //
 // Worst case: 10000 objective calls (the evaluation cap; the iteration limit alone would allow 20001). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
@@ -106,11 +110,12 @@ func ConcaveRightStrongWolfeMTAlphaEm3WithLimits(x0 float64, limits ConcaveRight
 
 // Tunables of ConcaveRightStrongWolfeMTAlphaEm3 from linesearch.toml; the kernels below read them.
 const (
-	concaveRightStrongWolfeMTAlphaEm3StepInitial    = 0.002 // step.initial
-	concaveRightStrongWolfeMTAlphaEm3StepDecrease   = 0.001 // step.decrease (c1)
-	concaveRightStrongWolfeMTAlphaEm3StepCurvature  = 0.1   // step.curvature (c2)
-	concaveRightStrongWolfeMTAlphaEm3StepTrials     = 40    // step.trials
-	concaveRightStrongWolfeMTAlphaEm3DerivativeCost = 0     // objective calls per gradient
+	concaveRightStrongWolfeMTAlphaEm3StepInitial    = 0.002                  // step.initial
+	concaveRightStrongWolfeMTAlphaEm3StepDecrease   = 0.001                  // step.decrease (c1)
+	concaveRightStrongWolfeMTAlphaEm3StepCurvature  = 0.1                    // step.curvature (c2)
+	concaveRightStrongWolfeMTAlphaEm3StepTrials     = 40                     // step.trials
+	concaveRightStrongWolfeMTAlphaEm3DerivativeCost = 0                      // objective calls per gradient
+	concaveRightStrongWolfeMTAlphaEm3UnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
 )
 
 // concaveRightStrongWolfeMTAlphaEm3Minimize runs the descent loop from x0 within lim:
@@ -120,9 +125,11 @@ const (
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
 //  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged);
+//     steps shorter than the step limit are left to try (converged when
+//     f was flat along d or the gradient is a difference, else no
+//     decrease);
 //  5. move, refresh the gradient, let the direction learn from the step;
-//  6. stop when the step is at most lim.Step·(‖x‖∞ + 1).
+//  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
 //
 // Before every objective call it checks that lim.Evaluations leaves room
 // for it, so the cap is never exceeded. A NaN or ±Inf at the start or in a
@@ -160,7 +167,7 @@ func concaveRightStrongWolfeMTAlphaEm3Minimize(x0 [1]float64, lim ConcaveRightSt
 			return out
 		}
 		if out.iterations > 0 {
-			if concaveRightStrongWolfeMTAlphaEm3MaxAbs(&s) <= lim.Step*(concaveRightStrongWolfeMTAlphaEm3MaxAbs(&x)+1) {
+			if concaveRightStrongWolfeMTAlphaEm3StepWithin(&s, &x, lim.Step) {
 				out.status = ConcaveRightStrongWolfeMTAlphaEm3StepTiny
 				return out
 			}
@@ -172,7 +179,7 @@ func concaveRightStrongWolfeMTAlphaEm3Minimize(x0 [1]float64, lim ConcaveRightSt
 		}
 		dir.compute(&g, &d)
 		now := concaveRightStrongWolfeMTAlphaEm3Dot(&g, &d)
-		if !(now < 0) {
+		if !(now < 0) || !concaveRightStrongWolfeMTAlphaEm3FiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
 			dir.compute(&g, &d)
 			now = concaveRightStrongWolfeMTAlphaEm3Dot(&g, &d)
@@ -181,7 +188,7 @@ func concaveRightStrongWolfeMTAlphaEm3Minimize(x0 [1]float64, lim ConcaveRightSt
 		if out.iterations > 0 {
 			first = dir.firstTrial(t, slope, now)
 		}
-		tiny := lim.Step * (concaveRightStrongWolfeMTAlphaEm3MaxAbs(&x) + 1) / concaveRightStrongWolfeMTAlphaEm3MaxAbs(&d) // steps t ≤ tiny pass the step test
+		tiny := concaveRightStrongWolfeMTAlphaEm3TinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
 		found := concaveRightStrongWolfeMTAlphaEm3LineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt)
 		out.evaluations += found.calls
 		switch found.end {
@@ -191,13 +198,27 @@ func concaveRightStrongWolfeMTAlphaEm3Minimize(x0 [1]float64, lim ConcaveRightSt
 			out.status = ConcaveRightStrongWolfeMTAlphaEm3NoAcceptableStep
 			return out
 		case concaveRightStrongWolfeMTAlphaEm3SearchTiny:
-			out.status = ConcaveRightStrongWolfeMTAlphaEm3StepTiny
+			// Converged to the step limit when f was flat along d to the
+			// accuracy available (see concaveRightStrongWolfeMTAlphaEm3FlatTrial), and always with finite
+			// differences: their error, not the true slope, then steers d,
+			// so x is stationary to the accuracy of the differences. With
+			// an analytic gradient that f contradicts, it is not.
+			out.status = ConcaveRightStrongWolfeMTAlphaEm3NoDecrease
+			if found.flat || concaveRightStrongWolfeMTAlphaEm3DerivativeCost > 0 {
+				out.status = ConcaveRightStrongWolfeMTAlphaEm3StepTiny
+			}
+			return out
+		}
+		if !concaveRightStrongWolfeMTAlphaEm3FiniteVec(&xt) {
+			out.status = ConcaveRightStrongWolfeMTAlphaEm3NoAcceptableStep // the accepted trial overflowed x
 			return out
 		}
 		if !found.gradient {
 			if out.evaluations+concaveRightStrongWolfeMTAlphaEm3DerivativeCost > lim.Evaluations {
-				out.x, out.f = xt, found.value // keep the better point even without its gradient
-				out.iterations++
+				if found.value < fx { // keep a better point even without its gradient
+					out.x, out.f = xt, found.value
+					out.iterations++
+				}
 				return out
 			}
 			concaveRightStrongWolfeMTAlphaEm3Derivative(&xt, found.value, &gt)
@@ -302,6 +323,18 @@ func concaveRightStrongWolfeMTAlphaEm3Abs(v float64) float64 {
 	return v
 }
 
+// concaveRightStrongWolfeMTAlphaEm3StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func concaveRightStrongWolfeMTAlphaEm3StepWithin(s, x *[1]float64, tol float64) bool {
+	for i := range s {
+		if !(concaveRightStrongWolfeMTAlphaEm3Abs(s[i]) <= tol*(concaveRightStrongWolfeMTAlphaEm3Abs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
+}
+
 // concaveRightStrongWolfeMTAlphaEm3Dot returns aᵀb.
 func concaveRightStrongWolfeMTAlphaEm3Dot(a, b *[1]float64) float64 {
 	var s float64
@@ -309,6 +342,20 @@ func concaveRightStrongWolfeMTAlphaEm3Dot(a, b *[1]float64) float64 {
 		s += a[i] * b[i]
 	}
 	return s
+}
+
+// concaveRightStrongWolfeMTAlphaEm3TinyStep returns the longest t for which the step t·d from x passes the
+// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+func concaveRightStrongWolfeMTAlphaEm3TinyStep(x, d *[1]float64, tol float64) float64 {
+	tiny := float64(-1)
+	for i := range x {
+		if d[i] != 0 {
+			if t := tol * (concaveRightStrongWolfeMTAlphaEm3Abs(x[i]) + 1) / concaveRightStrongWolfeMTAlphaEm3Abs(d[i]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+	}
+	return tiny
 }
 
 // concaveRightStrongWolfeMTAlphaEm3LineSearch finds a step meeting the Wolfe conditions
@@ -338,22 +385,18 @@ func concaveRightStrongWolfeMTAlphaEm3LineSearch(x *[1]float64, fx float64, d *[
 	var high concaveRightStrongWolfeMTAlphaEm3LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                                 // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	flat := false // whether a trial failing sufficient decrease found f flat
 	t := first
 	calls := 0
 	for trial := 0; trial < concaveRightStrongWolfeMTAlphaEm3StepTrials; trial++ {
 		if bracketed && concaveRightStrongWolfeMTAlphaEm3Abs(high.step-low.step) <= tiny {
 			// The bracket is below the step limit: take low when it
-			// decreased f; else x is converged to the step limit, unless
-			// f was not finite there.
+			// decreased f; else no step decreased f, unless f was not
+			// finite there.
 			if low.step == 0 {
-				return concaveRightStrongWolfeMTAlphaEm3LineResult{calls: calls, end: concaveRightStrongWolfeMTAlphaEm3TinyOrExhausted(concaveRightStrongWolfeMTAlphaEm3Finite(high.value))}
+				return concaveRightStrongWolfeMTAlphaEm3LineResult{calls: calls, flat: flat, end: concaveRightStrongWolfeMTAlphaEm3TinyOrExhausted(concaveRightStrongWolfeMTAlphaEm3Finite(high.value))}
 			}
-			concaveRightStrongWolfeMTAlphaEm3MoveTo(xt, x, low.step, d)
-			*gt = lowGradient
-			return concaveRightStrongWolfeMTAlphaEm3LineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: concaveRightStrongWolfeMTAlphaEm3SearchAccepted}
-		}
-		if !bracketed && t <= tiny {
-			return concaveRightStrongWolfeMTAlphaEm3LineResult{calls: calls, end: concaveRightStrongWolfeMTAlphaEm3SearchTiny}
+			return concaveRightStrongWolfeMTAlphaEm3AcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
 		}
 		if calls >= budget {
 			return concaveRightStrongWolfeMTAlphaEm3LineResult{calls: calls, end: concaveRightStrongWolfeMTAlphaEm3SearchOutOfBudget}
@@ -364,6 +407,7 @@ func concaveRightStrongWolfeMTAlphaEm3LineSearch(x *[1]float64, fx float64, d *[
 		previous := low
 		if !concaveRightStrongWolfeMTAlphaEm3Finite(current.value) || current.value > fx+concaveRightStrongWolfeMTAlphaEm3StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
+			flat = flat || concaveRightStrongWolfeMTAlphaEm3Finite(current.value) && concaveRightStrongWolfeMTAlphaEm3FlatTrial(fx, current.value, t, slope)
 		} else {
 			if calls+concaveRightStrongWolfeMTAlphaEm3DerivativeCost > budget {
 				return concaveRightStrongWolfeMTAlphaEm3LineResult{calls: calls, end: concaveRightStrongWolfeMTAlphaEm3SearchOutOfBudget}
@@ -390,6 +434,9 @@ func concaveRightStrongWolfeMTAlphaEm3LineSearch(x *[1]float64, fx float64, d *[
 			t = concaveRightStrongWolfeMTAlphaEm3ExpandTrial(&previous, &current)
 		}
 	}
+	if low.step > 0 {
+		return concaveRightStrongWolfeMTAlphaEm3AcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+	}
 	return concaveRightStrongWolfeMTAlphaEm3LineResult{calls: calls, end: concaveRightStrongWolfeMTAlphaEm3SearchExhausted}
 }
 
@@ -399,6 +446,7 @@ type concaveRightStrongWolfeMTAlphaEm3LineResult struct {
 	value    float64                                    // f(x + t·d)
 	calls    int                                        // objective calls spent, finite differences included
 	gradient bool                                       // whether gt holds ∇f(x + t·d) already
+	flat     bool                                       // whether a failed trial found f flat along d (see concaveRightStrongWolfeMTAlphaEm3FlatTrial)
 	end      concaveRightStrongWolfeMTAlphaEm3SearchEnd // how the search ended
 }
 
@@ -412,10 +460,10 @@ type concaveRightStrongWolfeMTAlphaEm3LinePoint struct {
 	hasSlope           bool
 }
 
-// concaveRightStrongWolfeMTAlphaEm3TinyOrExhausted ends a search that has run below the step limit: x is
-// converged to the step limit when the last failure was a finite increase
-// of f, but a non-finite value says nothing about f near x, so the search
-// has simply failed.
+// concaveRightStrongWolfeMTAlphaEm3TinyOrExhausted ends a search that has run below the step limit: no
+// decrease was found when the last failure was a finite value, but a
+// non-finite value says nothing about f near x, so the search has simply
+// failed.
 func concaveRightStrongWolfeMTAlphaEm3TinyOrExhausted(lastFinite bool) concaveRightStrongWolfeMTAlphaEm3SearchEnd {
 	if lastFinite {
 		return concaveRightStrongWolfeMTAlphaEm3SearchTiny
@@ -427,14 +475,46 @@ const (
 	concaveRightStrongWolfeMTAlphaEm3SearchAccepted    concaveRightStrongWolfeMTAlphaEm3SearchEnd = iota // a step met the rule
 	concaveRightStrongWolfeMTAlphaEm3SearchExhausted                                                     // concaveRightStrongWolfeMTAlphaEm3StepTrials trials met none
 	concaveRightStrongWolfeMTAlphaEm3SearchOutOfBudget                                                   // the evaluation cap came first
-	concaveRightStrongWolfeMTAlphaEm3SearchTiny                                                          // every step longer than tiny failed: x is converged to the step limit
+	concaveRightStrongWolfeMTAlphaEm3SearchTiny                                                          // every step longer than tiny failed to decrease f
 )
+
+// concaveRightStrongWolfeMTAlphaEm3AcceptLow ends a Wolfe search with its best trial, which met sufficient
+// decrease though not the curvature condition, when the bracket collapsed
+// or the trials ran out. Its gradient was kept in lowGradient. (When the
+// budget runs out the search ends without a step instead, so that a capped
+// run follows the uncapped run's path up to the cap.)
+func concaveRightStrongWolfeMTAlphaEm3AcceptLow(x, d *[1]float64, low *concaveRightStrongWolfeMTAlphaEm3LinePoint, lowGradient *[1]float64, calls int, xt, gt *[1]float64) concaveRightStrongWolfeMTAlphaEm3LineResult {
+	concaveRightStrongWolfeMTAlphaEm3MoveTo(xt, x, low.step, d)
+	*gt = *lowGradient
+	return concaveRightStrongWolfeMTAlphaEm3LineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: concaveRightStrongWolfeMTAlphaEm3SearchAccepted}
+}
 
 // concaveRightStrongWolfeMTAlphaEm3MoveTo sets out = x + t·d.
 func concaveRightStrongWolfeMTAlphaEm3MoveTo(out, x *[1]float64, t float64, d *[1]float64) {
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
+}
+
+// concaveRightStrongWolfeMTAlphaEm3FlatTrial reports whether a failed trial t found f flat along d, to
+// the accuracy the gradient and f allow, so that no decrease can be
+// expected from any step:
+//
+//   - the change f(x + t·d) − f(x) = ft − fx is at most half the
+//     first-order prediction t·∇fᵀd in size: near a minimizer whose
+//     gradient is known only roughly (differences), the true slope along
+//     d is below that accuracy. A wrong gradient makes f rise about as
+//     fast as it predicts a fall, and never passes. This is the ratio of
+//     actual to predicted reduction of trust-region methods (Nocedal &
+//     Wright 2006, eq. 4.4);
+//   - or the prediction itself, |t·∇fᵀd|, is below the rounding unit of
+//     f, u·|f(x)|: no change that small can show in floating point, so x
+//     is a minimizer to working precision (Dennis & Schnabel 1983, §7.2,
+//     relate the gradient test to the precision of f; recalled from
+//     memory).
+func concaveRightStrongWolfeMTAlphaEm3FlatTrial(fx, ft, t, slope float64) bool {
+	predicted := concaveRightStrongWolfeMTAlphaEm3Abs(t * slope)
+	return concaveRightStrongWolfeMTAlphaEm3Abs(ft-fx) <= 0.5*predicted || predicted <= concaveRightStrongWolfeMTAlphaEm3UnitRoundoff*concaveRightStrongWolfeMTAlphaEm3Abs(fx)
 }
 
 // concaveRightStrongWolfeMTAlphaEm3CurvatureMet is the strong Wolfe curvature condition
@@ -492,7 +572,16 @@ func concaveRightStrongWolfeMTAlphaEm3SquareRoot(v float64) float64 {
 // concaveRightStrongWolfeMTAlphaEm3ClampBetween returns v limited to the interval with ends a and b, in
 // either order.
 func concaveRightStrongWolfeMTAlphaEm3ClampBetween(v, a, b float64) float64 {
-	return max(min(a, b), min(max(a, b), v))
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
 }
 
 // concaveRightStrongWolfeMTAlphaEm3ExpandTrial picks a larger trial after current met sufficient decrease

@@ -10,18 +10,20 @@ type PlassmannWolfeMTAlphaE1Status uint8
 const (
 	// PlassmannWolfeMTAlphaE1GradientSmall: the largest gradient component fell to the gradient limit: converged.
 	PlassmannWolfeMTAlphaE1GradientSmall PlassmannWolfeMTAlphaE1Status = iota + 1
-	// PlassmannWolfeMTAlphaE1StepTiny: the last step was at most the step limit relative to ‖x‖∞ + 1: converged.
+	// PlassmannWolfeMTAlphaE1StepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f while f was flat to the accuracy of the gradient (always so with finite differences): converged.
 	PlassmannWolfeMTAlphaE1StepTiny
 	// PlassmannWolfeMTAlphaE1OutOfIterations: the iteration limit came first.
 	PlassmannWolfeMTAlphaE1OutOfIterations
 	// PlassmannWolfeMTAlphaE1OutOfEvaluations: the next objective call would have exceeded the evaluation cap.
 	PlassmannWolfeMTAlphaE1OutOfEvaluations
-	// PlassmannWolfeMTAlphaE1NoAcceptableStep: no trial of the line search met the step rule within its trials.
+	// PlassmannWolfeMTAlphaE1NoAcceptableStep: no trial of the line search met the step rule at a finite point within its trials.
 	PlassmannWolfeMTAlphaE1NoAcceptableStep
 	// PlassmannWolfeMTAlphaE1NonFiniteStart: x0 or the objective at x0 is NaN or ±Inf.
 	PlassmannWolfeMTAlphaE1NonFiniteStart
 	// PlassmannWolfeMTAlphaE1NonFiniteGradient: a gradient component became NaN or ±Inf.
 	PlassmannWolfeMTAlphaE1NonFiniteGradient
+	// PlassmannWolfeMTAlphaE1NoDecrease: no step longer than the step limit decreased f, and f rose about as fast as the analytic gradient said it would fall: the gradient is probably wrong (see the generated gradient test).
+	PlassmannWolfeMTAlphaE1NoDecrease
 )
 
 // String describes the status in a few words.
@@ -41,6 +43,8 @@ func (s PlassmannWolfeMTAlphaE1Status) String() string {
 		return "non-finite start"
 	case PlassmannWolfeMTAlphaE1NonFiniteGradient:
 		return "non-finite gradient"
+	case PlassmannWolfeMTAlphaE1NoDecrease:
+		return "no decrease"
 	default:
 		return "unknown status"
 	}
@@ -63,7 +67,7 @@ type PlassmannWolfeMTAlphaE1Result struct {
 // PlassmannWolfeMTAlphaE1Limits are the stop limits of one run. Pass them to PlassmannWolfeMTAlphaE1WithLimits to change them at run time; PlassmannWolfeMTAlphaE1DefaultLimits returns the spec's.
 type PlassmannWolfeMTAlphaE1Limits struct {
 	Gradient    float64 // stop when the largest |∂f/∂xᵢ| is at most this
-	Step        float64 // stop when the largest |Δxᵢ| is at most this·(‖x‖∞ + 1)
+	Step        float64 // stop when every |Δxᵢ| is at most this·(|xᵢ| + 1)
 	Iterations  int     // most accepted steps
 	Evaluations int     // hard cap on objective calls, finite differences included; never exceeded
 }
@@ -84,7 +88,7 @@ func PlassmannWolfeMTAlphaE1DefaultLimits() PlassmannWolfeMTAlphaE1Limits {
 // Step rule wolfe: bracket and zoom until sufficient decrease and the curvature condition hold.
 // Derivative analytic: the user's own gradient function (spec key `gradient`); costs no objective calls.
 // Constants: initial 999.9999999999991, c1 0.01, c2 0.1, at most 40 trials per line search.
-// Default stop: largest gradient component ≤ 1e-08, step ≤ 1e-14·(‖x‖∞ + 1), 500 iterations, 10000 objective calls.
+// Default stop: largest gradient component ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 500 iterations, 10000 objective calls.
 //
 // Worst case: 10000 objective calls (the evaluation cap; the iteration limit alone would allow 20001). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
@@ -106,11 +110,12 @@ func PlassmannWolfeMTAlphaE1WithLimits(x0 float64, limits PlassmannWolfeMTAlphaE
 
 // Tunables of PlassmannWolfeMTAlphaE1 from linesearch.toml; the kernels below read them.
 const (
-	plassmannWolfeMTAlphaE1StepInitial    = 999.9999999999991 // step.initial
-	plassmannWolfeMTAlphaE1StepDecrease   = 0.01              // step.decrease (c1)
-	plassmannWolfeMTAlphaE1StepCurvature  = 0.1               // step.curvature (c2)
-	plassmannWolfeMTAlphaE1StepTrials     = 40                // step.trials
-	plassmannWolfeMTAlphaE1DerivativeCost = 0                 // objective calls per gradient
+	plassmannWolfeMTAlphaE1StepInitial    = 999.9999999999991      // step.initial
+	plassmannWolfeMTAlphaE1StepDecrease   = 0.01                   // step.decrease (c1)
+	plassmannWolfeMTAlphaE1StepCurvature  = 0.1                    // step.curvature (c2)
+	plassmannWolfeMTAlphaE1StepTrials     = 40                     // step.trials
+	plassmannWolfeMTAlphaE1DerivativeCost = 0                      // objective calls per gradient
+	plassmannWolfeMTAlphaE1UnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
 )
 
 // plassmannWolfeMTAlphaE1Minimize runs the descent loop from x0 within lim:
@@ -120,9 +125,11 @@ const (
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
 //  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged);
+//     steps shorter than the step limit are left to try (converged when
+//     f was flat along d or the gradient is a difference, else no
+//     decrease);
 //  5. move, refresh the gradient, let the direction learn from the step;
-//  6. stop when the step is at most lim.Step·(‖x‖∞ + 1).
+//  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
 //
 // Before every objective call it checks that lim.Evaluations leaves room
 // for it, so the cap is never exceeded. A NaN or ±Inf at the start or in a
@@ -160,7 +167,7 @@ func plassmannWolfeMTAlphaE1Minimize(x0 [1]float64, lim PlassmannWolfeMTAlphaE1L
 			return out
 		}
 		if out.iterations > 0 {
-			if plassmannWolfeMTAlphaE1MaxAbs(&s) <= lim.Step*(plassmannWolfeMTAlphaE1MaxAbs(&x)+1) {
+			if plassmannWolfeMTAlphaE1StepWithin(&s, &x, lim.Step) {
 				out.status = PlassmannWolfeMTAlphaE1StepTiny
 				return out
 			}
@@ -172,7 +179,7 @@ func plassmannWolfeMTAlphaE1Minimize(x0 [1]float64, lim PlassmannWolfeMTAlphaE1L
 		}
 		dir.compute(&g, &d)
 		now := plassmannWolfeMTAlphaE1Dot(&g, &d)
-		if !(now < 0) {
+		if !(now < 0) || !plassmannWolfeMTAlphaE1FiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
 			dir.compute(&g, &d)
 			now = plassmannWolfeMTAlphaE1Dot(&g, &d)
@@ -181,7 +188,7 @@ func plassmannWolfeMTAlphaE1Minimize(x0 [1]float64, lim PlassmannWolfeMTAlphaE1L
 		if out.iterations > 0 {
 			first = dir.firstTrial(t, slope, now)
 		}
-		tiny := lim.Step * (plassmannWolfeMTAlphaE1MaxAbs(&x) + 1) / plassmannWolfeMTAlphaE1MaxAbs(&d) // steps t ≤ tiny pass the step test
+		tiny := plassmannWolfeMTAlphaE1TinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
 		found := plassmannWolfeMTAlphaE1LineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt)
 		out.evaluations += found.calls
 		switch found.end {
@@ -191,13 +198,27 @@ func plassmannWolfeMTAlphaE1Minimize(x0 [1]float64, lim PlassmannWolfeMTAlphaE1L
 			out.status = PlassmannWolfeMTAlphaE1NoAcceptableStep
 			return out
 		case plassmannWolfeMTAlphaE1SearchTiny:
-			out.status = PlassmannWolfeMTAlphaE1StepTiny
+			// Converged to the step limit when f was flat along d to the
+			// accuracy available (see plassmannWolfeMTAlphaE1FlatTrial), and always with finite
+			// differences: their error, not the true slope, then steers d,
+			// so x is stationary to the accuracy of the differences. With
+			// an analytic gradient that f contradicts, it is not.
+			out.status = PlassmannWolfeMTAlphaE1NoDecrease
+			if found.flat || plassmannWolfeMTAlphaE1DerivativeCost > 0 {
+				out.status = PlassmannWolfeMTAlphaE1StepTiny
+			}
+			return out
+		}
+		if !plassmannWolfeMTAlphaE1FiniteVec(&xt) {
+			out.status = PlassmannWolfeMTAlphaE1NoAcceptableStep // the accepted trial overflowed x
 			return out
 		}
 		if !found.gradient {
 			if out.evaluations+plassmannWolfeMTAlphaE1DerivativeCost > lim.Evaluations {
-				out.x, out.f = xt, found.value // keep the better point even without its gradient
-				out.iterations++
+				if found.value < fx { // keep a better point even without its gradient
+					out.x, out.f = xt, found.value
+					out.iterations++
+				}
 				return out
 			}
 			plassmannWolfeMTAlphaE1Derivative(&xt, found.value, &gt)
@@ -302,6 +323,18 @@ func plassmannWolfeMTAlphaE1Abs(v float64) float64 {
 	return v
 }
 
+// plassmannWolfeMTAlphaE1StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func plassmannWolfeMTAlphaE1StepWithin(s, x *[1]float64, tol float64) bool {
+	for i := range s {
+		if !(plassmannWolfeMTAlphaE1Abs(s[i]) <= tol*(plassmannWolfeMTAlphaE1Abs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
+}
+
 // plassmannWolfeMTAlphaE1Dot returns aᵀb.
 func plassmannWolfeMTAlphaE1Dot(a, b *[1]float64) float64 {
 	var s float64
@@ -309,6 +342,20 @@ func plassmannWolfeMTAlphaE1Dot(a, b *[1]float64) float64 {
 		s += a[i] * b[i]
 	}
 	return s
+}
+
+// plassmannWolfeMTAlphaE1TinyStep returns the longest t for which the step t·d from x passes the
+// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+func plassmannWolfeMTAlphaE1TinyStep(x, d *[1]float64, tol float64) float64 {
+	tiny := float64(-1)
+	for i := range x {
+		if d[i] != 0 {
+			if t := tol * (plassmannWolfeMTAlphaE1Abs(x[i]) + 1) / plassmannWolfeMTAlphaE1Abs(d[i]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+	}
+	return tiny
 }
 
 // plassmannWolfeMTAlphaE1LineSearch finds a step meeting the Wolfe conditions
@@ -338,22 +385,18 @@ func plassmannWolfeMTAlphaE1LineSearch(x *[1]float64, fx float64, d *[1]float64,
 	var high plassmannWolfeMTAlphaE1LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                       // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	flat := false // whether a trial failing sufficient decrease found f flat
 	t := first
 	calls := 0
 	for trial := 0; trial < plassmannWolfeMTAlphaE1StepTrials; trial++ {
 		if bracketed && plassmannWolfeMTAlphaE1Abs(high.step-low.step) <= tiny {
 			// The bracket is below the step limit: take low when it
-			// decreased f; else x is converged to the step limit, unless
-			// f was not finite there.
+			// decreased f; else no step decreased f, unless f was not
+			// finite there.
 			if low.step == 0 {
-				return plassmannWolfeMTAlphaE1LineResult{calls: calls, end: plassmannWolfeMTAlphaE1TinyOrExhausted(plassmannWolfeMTAlphaE1Finite(high.value))}
+				return plassmannWolfeMTAlphaE1LineResult{calls: calls, flat: flat, end: plassmannWolfeMTAlphaE1TinyOrExhausted(plassmannWolfeMTAlphaE1Finite(high.value))}
 			}
-			plassmannWolfeMTAlphaE1MoveTo(xt, x, low.step, d)
-			*gt = lowGradient
-			return plassmannWolfeMTAlphaE1LineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: plassmannWolfeMTAlphaE1SearchAccepted}
-		}
-		if !bracketed && t <= tiny {
-			return plassmannWolfeMTAlphaE1LineResult{calls: calls, end: plassmannWolfeMTAlphaE1SearchTiny}
+			return plassmannWolfeMTAlphaE1AcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
 		}
 		if calls >= budget {
 			return plassmannWolfeMTAlphaE1LineResult{calls: calls, end: plassmannWolfeMTAlphaE1SearchOutOfBudget}
@@ -364,6 +407,7 @@ func plassmannWolfeMTAlphaE1LineSearch(x *[1]float64, fx float64, d *[1]float64,
 		previous := low
 		if !plassmannWolfeMTAlphaE1Finite(current.value) || current.value > fx+plassmannWolfeMTAlphaE1StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
+			flat = flat || plassmannWolfeMTAlphaE1Finite(current.value) && plassmannWolfeMTAlphaE1FlatTrial(fx, current.value, t, slope)
 		} else {
 			if calls+plassmannWolfeMTAlphaE1DerivativeCost > budget {
 				return plassmannWolfeMTAlphaE1LineResult{calls: calls, end: plassmannWolfeMTAlphaE1SearchOutOfBudget}
@@ -390,6 +434,9 @@ func plassmannWolfeMTAlphaE1LineSearch(x *[1]float64, fx float64, d *[1]float64,
 			t = plassmannWolfeMTAlphaE1ExpandTrial(&previous, &current)
 		}
 	}
+	if low.step > 0 {
+		return plassmannWolfeMTAlphaE1AcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+	}
 	return plassmannWolfeMTAlphaE1LineResult{calls: calls, end: plassmannWolfeMTAlphaE1SearchExhausted}
 }
 
@@ -399,6 +446,7 @@ type plassmannWolfeMTAlphaE1LineResult struct {
 	value    float64                          // f(x + t·d)
 	calls    int                              // objective calls spent, finite differences included
 	gradient bool                             // whether gt holds ∇f(x + t·d) already
+	flat     bool                             // whether a failed trial found f flat along d (see plassmannWolfeMTAlphaE1FlatTrial)
 	end      plassmannWolfeMTAlphaE1SearchEnd // how the search ended
 }
 
@@ -412,10 +460,10 @@ type plassmannWolfeMTAlphaE1LinePoint struct {
 	hasSlope           bool
 }
 
-// plassmannWolfeMTAlphaE1TinyOrExhausted ends a search that has run below the step limit: x is
-// converged to the step limit when the last failure was a finite increase
-// of f, but a non-finite value says nothing about f near x, so the search
-// has simply failed.
+// plassmannWolfeMTAlphaE1TinyOrExhausted ends a search that has run below the step limit: no
+// decrease was found when the last failure was a finite value, but a
+// non-finite value says nothing about f near x, so the search has simply
+// failed.
 func plassmannWolfeMTAlphaE1TinyOrExhausted(lastFinite bool) plassmannWolfeMTAlphaE1SearchEnd {
 	if lastFinite {
 		return plassmannWolfeMTAlphaE1SearchTiny
@@ -427,14 +475,46 @@ const (
 	plassmannWolfeMTAlphaE1SearchAccepted    plassmannWolfeMTAlphaE1SearchEnd = iota // a step met the rule
 	plassmannWolfeMTAlphaE1SearchExhausted                                           // plassmannWolfeMTAlphaE1StepTrials trials met none
 	plassmannWolfeMTAlphaE1SearchOutOfBudget                                         // the evaluation cap came first
-	plassmannWolfeMTAlphaE1SearchTiny                                                // every step longer than tiny failed: x is converged to the step limit
+	plassmannWolfeMTAlphaE1SearchTiny                                                // every step longer than tiny failed to decrease f
 )
+
+// plassmannWolfeMTAlphaE1AcceptLow ends a Wolfe search with its best trial, which met sufficient
+// decrease though not the curvature condition, when the bracket collapsed
+// or the trials ran out. Its gradient was kept in lowGradient. (When the
+// budget runs out the search ends without a step instead, so that a capped
+// run follows the uncapped run's path up to the cap.)
+func plassmannWolfeMTAlphaE1AcceptLow(x, d *[1]float64, low *plassmannWolfeMTAlphaE1LinePoint, lowGradient *[1]float64, calls int, xt, gt *[1]float64) plassmannWolfeMTAlphaE1LineResult {
+	plassmannWolfeMTAlphaE1MoveTo(xt, x, low.step, d)
+	*gt = *lowGradient
+	return plassmannWolfeMTAlphaE1LineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: plassmannWolfeMTAlphaE1SearchAccepted}
+}
 
 // plassmannWolfeMTAlphaE1MoveTo sets out = x + t·d.
 func plassmannWolfeMTAlphaE1MoveTo(out, x *[1]float64, t float64, d *[1]float64) {
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
+}
+
+// plassmannWolfeMTAlphaE1FlatTrial reports whether a failed trial t found f flat along d, to
+// the accuracy the gradient and f allow, so that no decrease can be
+// expected from any step:
+//
+//   - the change f(x + t·d) − f(x) = ft − fx is at most half the
+//     first-order prediction t·∇fᵀd in size: near a minimizer whose
+//     gradient is known only roughly (differences), the true slope along
+//     d is below that accuracy. A wrong gradient makes f rise about as
+//     fast as it predicts a fall, and never passes. This is the ratio of
+//     actual to predicted reduction of trust-region methods (Nocedal &
+//     Wright 2006, eq. 4.4);
+//   - or the prediction itself, |t·∇fᵀd|, is below the rounding unit of
+//     f, u·|f(x)|: no change that small can show in floating point, so x
+//     is a minimizer to working precision (Dennis & Schnabel 1983, §7.2,
+//     relate the gradient test to the precision of f; recalled from
+//     memory).
+func plassmannWolfeMTAlphaE1FlatTrial(fx, ft, t, slope float64) bool {
+	predicted := plassmannWolfeMTAlphaE1Abs(t * slope)
+	return plassmannWolfeMTAlphaE1Abs(ft-fx) <= 0.5*predicted || predicted <= plassmannWolfeMTAlphaE1UnitRoundoff*plassmannWolfeMTAlphaE1Abs(fx)
 }
 
 // plassmannWolfeMTAlphaE1CurvatureMet is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)
@@ -492,7 +572,16 @@ func plassmannWolfeMTAlphaE1SquareRoot(v float64) float64 {
 // plassmannWolfeMTAlphaE1ClampBetween returns v limited to the interval with ends a and b, in
 // either order.
 func plassmannWolfeMTAlphaE1ClampBetween(v, a, b float64) float64 {
-	return max(min(a, b), min(max(a, b), v))
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
 }
 
 // plassmannWolfeMTAlphaE1ExpandTrial picks a larger trial after current met sufficient decrease

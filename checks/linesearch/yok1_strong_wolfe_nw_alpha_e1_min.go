@@ -10,18 +10,20 @@ type YOK1StrongWolfeNWAlphaE1Status uint8
 const (
 	// YOK1StrongWolfeNWAlphaE1GradientSmall: the largest gradient component fell to the gradient limit: converged.
 	YOK1StrongWolfeNWAlphaE1GradientSmall YOK1StrongWolfeNWAlphaE1Status = iota + 1
-	// YOK1StrongWolfeNWAlphaE1StepTiny: the last step was at most the step limit relative to ‖x‖∞ + 1: converged.
+	// YOK1StrongWolfeNWAlphaE1StepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f while f was flat to the accuracy of the gradient (always so with finite differences): converged.
 	YOK1StrongWolfeNWAlphaE1StepTiny
 	// YOK1StrongWolfeNWAlphaE1OutOfIterations: the iteration limit came first.
 	YOK1StrongWolfeNWAlphaE1OutOfIterations
 	// YOK1StrongWolfeNWAlphaE1OutOfEvaluations: the next objective call would have exceeded the evaluation cap.
 	YOK1StrongWolfeNWAlphaE1OutOfEvaluations
-	// YOK1StrongWolfeNWAlphaE1NoAcceptableStep: no trial of the line search met the step rule within its trials.
+	// YOK1StrongWolfeNWAlphaE1NoAcceptableStep: no trial of the line search met the step rule at a finite point within its trials.
 	YOK1StrongWolfeNWAlphaE1NoAcceptableStep
 	// YOK1StrongWolfeNWAlphaE1NonFiniteStart: x0 or the objective at x0 is NaN or ±Inf.
 	YOK1StrongWolfeNWAlphaE1NonFiniteStart
 	// YOK1StrongWolfeNWAlphaE1NonFiniteGradient: a gradient component became NaN or ±Inf.
 	YOK1StrongWolfeNWAlphaE1NonFiniteGradient
+	// YOK1StrongWolfeNWAlphaE1NoDecrease: no step longer than the step limit decreased f, and f rose about as fast as the analytic gradient said it would fall: the gradient is probably wrong (see the generated gradient test).
+	YOK1StrongWolfeNWAlphaE1NoDecrease
 )
 
 // String describes the status in a few words.
@@ -41,6 +43,8 @@ func (s YOK1StrongWolfeNWAlphaE1Status) String() string {
 		return "non-finite start"
 	case YOK1StrongWolfeNWAlphaE1NonFiniteGradient:
 		return "non-finite gradient"
+	case YOK1StrongWolfeNWAlphaE1NoDecrease:
+		return "no decrease"
 	default:
 		return "unknown status"
 	}
@@ -63,7 +67,7 @@ type YOK1StrongWolfeNWAlphaE1Result struct {
 // YOK1StrongWolfeNWAlphaE1Limits are the stop limits of one run. Pass them to YOK1StrongWolfeNWAlphaE1WithLimits to change them at run time; YOK1StrongWolfeNWAlphaE1DefaultLimits returns the spec's.
 type YOK1StrongWolfeNWAlphaE1Limits struct {
 	Gradient    float64 // stop when the largest |∂f/∂xᵢ| is at most this
-	Step        float64 // stop when the largest |Δxᵢ| is at most this·(‖x‖∞ + 1)
+	Step        float64 // stop when every |Δxᵢ| is at most this·(|xᵢ| + 1)
 	Iterations  int     // most accepted steps
 	Evaluations int     // hard cap on objective calls, finite differences included; never exceeded
 }
@@ -84,7 +88,7 @@ func YOK1StrongWolfeNWAlphaE1DefaultLimits() YOK1StrongWolfeNWAlphaE1Limits {
 // Step rule strong-wolfe: bracket and zoom until sufficient decrease and the strong curvature condition hold.
 // Derivative analytic: the user's own gradient function (spec key `gradient`); costs no objective calls.
 // Constants: initial 10.010010005, c1 0.0001, c2 0.9, at most 40 trials per line search.
-// Default stop: largest gradient component ≤ 1e-08, step ≤ 1e-14·(‖x‖∞ + 1), 500 iterations, 10000 objective calls.
+// Default stop: largest gradient component ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 500 iterations, 10000 objective calls.
 //
 // Worst case: 10000 objective calls (the evaluation cap; the iteration limit alone would allow 20001). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
@@ -106,11 +110,12 @@ func YOK1StrongWolfeNWAlphaE1WithLimits(x0 float64, limits YOK1StrongWolfeNWAlph
 
 // Tunables of YOK1StrongWolfeNWAlphaE1 from linesearch.toml; the kernels below read them.
 const (
-	yok1StrongWolfeNWAlphaE1StepInitial    = 10.010010005 // step.initial
-	yok1StrongWolfeNWAlphaE1StepDecrease   = 0.0001       // step.decrease (c1)
-	yok1StrongWolfeNWAlphaE1StepCurvature  = 0.9          // step.curvature (c2)
-	yok1StrongWolfeNWAlphaE1StepTrials     = 40           // step.trials
-	yok1StrongWolfeNWAlphaE1DerivativeCost = 0            // objective calls per gradient
+	yok1StrongWolfeNWAlphaE1StepInitial    = 10.010010005           // step.initial
+	yok1StrongWolfeNWAlphaE1StepDecrease   = 0.0001                 // step.decrease (c1)
+	yok1StrongWolfeNWAlphaE1StepCurvature  = 0.9                    // step.curvature (c2)
+	yok1StrongWolfeNWAlphaE1StepTrials     = 40                     // step.trials
+	yok1StrongWolfeNWAlphaE1DerivativeCost = 0                      // objective calls per gradient
+	yok1StrongWolfeNWAlphaE1UnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
 )
 
 // yok1StrongWolfeNWAlphaE1Minimize runs the descent loop from x0 within lim:
@@ -120,9 +125,11 @@ const (
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
 //  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged);
+//     steps shorter than the step limit are left to try (converged when
+//     f was flat along d or the gradient is a difference, else no
+//     decrease);
 //  5. move, refresh the gradient, let the direction learn from the step;
-//  6. stop when the step is at most lim.Step·(‖x‖∞ + 1).
+//  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
 //
 // Before every objective call it checks that lim.Evaluations leaves room
 // for it, so the cap is never exceeded. A NaN or ±Inf at the start or in a
@@ -160,7 +167,7 @@ func yok1StrongWolfeNWAlphaE1Minimize(x0 [1]float64, lim YOK1StrongWolfeNWAlphaE
 			return out
 		}
 		if out.iterations > 0 {
-			if yok1StrongWolfeNWAlphaE1MaxAbs(&s) <= lim.Step*(yok1StrongWolfeNWAlphaE1MaxAbs(&x)+1) {
+			if yok1StrongWolfeNWAlphaE1StepWithin(&s, &x, lim.Step) {
 				out.status = YOK1StrongWolfeNWAlphaE1StepTiny
 				return out
 			}
@@ -172,7 +179,7 @@ func yok1StrongWolfeNWAlphaE1Minimize(x0 [1]float64, lim YOK1StrongWolfeNWAlphaE
 		}
 		dir.compute(&g, &d)
 		now := yok1StrongWolfeNWAlphaE1Dot(&g, &d)
-		if !(now < 0) {
+		if !(now < 0) || !yok1StrongWolfeNWAlphaE1FiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
 			dir.compute(&g, &d)
 			now = yok1StrongWolfeNWAlphaE1Dot(&g, &d)
@@ -181,7 +188,7 @@ func yok1StrongWolfeNWAlphaE1Minimize(x0 [1]float64, lim YOK1StrongWolfeNWAlphaE
 		if out.iterations > 0 {
 			first = dir.firstTrial(t, slope, now)
 		}
-		tiny := lim.Step * (yok1StrongWolfeNWAlphaE1MaxAbs(&x) + 1) / yok1StrongWolfeNWAlphaE1MaxAbs(&d) // steps t ≤ tiny pass the step test
+		tiny := yok1StrongWolfeNWAlphaE1TinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
 		found := yok1StrongWolfeNWAlphaE1LineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt)
 		out.evaluations += found.calls
 		switch found.end {
@@ -191,13 +198,27 @@ func yok1StrongWolfeNWAlphaE1Minimize(x0 [1]float64, lim YOK1StrongWolfeNWAlphaE
 			out.status = YOK1StrongWolfeNWAlphaE1NoAcceptableStep
 			return out
 		case yok1StrongWolfeNWAlphaE1SearchTiny:
-			out.status = YOK1StrongWolfeNWAlphaE1StepTiny
+			// Converged to the step limit when f was flat along d to the
+			// accuracy available (see yok1StrongWolfeNWAlphaE1FlatTrial), and always with finite
+			// differences: their error, not the true slope, then steers d,
+			// so x is stationary to the accuracy of the differences. With
+			// an analytic gradient that f contradicts, it is not.
+			out.status = YOK1StrongWolfeNWAlphaE1NoDecrease
+			if found.flat || yok1StrongWolfeNWAlphaE1DerivativeCost > 0 {
+				out.status = YOK1StrongWolfeNWAlphaE1StepTiny
+			}
+			return out
+		}
+		if !yok1StrongWolfeNWAlphaE1FiniteVec(&xt) {
+			out.status = YOK1StrongWolfeNWAlphaE1NoAcceptableStep // the accepted trial overflowed x
 			return out
 		}
 		if !found.gradient {
 			if out.evaluations+yok1StrongWolfeNWAlphaE1DerivativeCost > lim.Evaluations {
-				out.x, out.f = xt, found.value // keep the better point even without its gradient
-				out.iterations++
+				if found.value < fx { // keep a better point even without its gradient
+					out.x, out.f = xt, found.value
+					out.iterations++
+				}
 				return out
 			}
 			yok1StrongWolfeNWAlphaE1Derivative(&xt, found.value, &gt)
@@ -302,6 +323,18 @@ func yok1StrongWolfeNWAlphaE1Abs(v float64) float64 {
 	return v
 }
 
+// yok1StrongWolfeNWAlphaE1StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func yok1StrongWolfeNWAlphaE1StepWithin(s, x *[1]float64, tol float64) bool {
+	for i := range s {
+		if !(yok1StrongWolfeNWAlphaE1Abs(s[i]) <= tol*(yok1StrongWolfeNWAlphaE1Abs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
+}
+
 // yok1StrongWolfeNWAlphaE1Dot returns aᵀb.
 func yok1StrongWolfeNWAlphaE1Dot(a, b *[1]float64) float64 {
 	var s float64
@@ -309,6 +342,20 @@ func yok1StrongWolfeNWAlphaE1Dot(a, b *[1]float64) float64 {
 		s += a[i] * b[i]
 	}
 	return s
+}
+
+// yok1StrongWolfeNWAlphaE1TinyStep returns the longest t for which the step t·d from x passes the
+// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+func yok1StrongWolfeNWAlphaE1TinyStep(x, d *[1]float64, tol float64) float64 {
+	tiny := float64(-1)
+	for i := range x {
+		if d[i] != 0 {
+			if t := tol * (yok1StrongWolfeNWAlphaE1Abs(x[i]) + 1) / yok1StrongWolfeNWAlphaE1Abs(d[i]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+	}
+	return tiny
 }
 
 // yok1StrongWolfeNWAlphaE1LineSearch finds a step meeting the Wolfe conditions
@@ -338,22 +385,18 @@ func yok1StrongWolfeNWAlphaE1LineSearch(x *[1]float64, fx float64, d *[1]float64
 	var high yok1StrongWolfeNWAlphaE1LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                        // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	flat := false // whether a trial failing sufficient decrease found f flat
 	t := first
 	calls := 0
 	for trial := 0; trial < yok1StrongWolfeNWAlphaE1StepTrials; trial++ {
 		if bracketed && yok1StrongWolfeNWAlphaE1Abs(high.step-low.step) <= tiny {
 			// The bracket is below the step limit: take low when it
-			// decreased f; else x is converged to the step limit, unless
-			// f was not finite there.
+			// decreased f; else no step decreased f, unless f was not
+			// finite there.
 			if low.step == 0 {
-				return yok1StrongWolfeNWAlphaE1LineResult{calls: calls, end: yok1StrongWolfeNWAlphaE1TinyOrExhausted(yok1StrongWolfeNWAlphaE1Finite(high.value))}
+				return yok1StrongWolfeNWAlphaE1LineResult{calls: calls, flat: flat, end: yok1StrongWolfeNWAlphaE1TinyOrExhausted(yok1StrongWolfeNWAlphaE1Finite(high.value))}
 			}
-			yok1StrongWolfeNWAlphaE1MoveTo(xt, x, low.step, d)
-			*gt = lowGradient
-			return yok1StrongWolfeNWAlphaE1LineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: yok1StrongWolfeNWAlphaE1SearchAccepted}
-		}
-		if !bracketed && t <= tiny {
-			return yok1StrongWolfeNWAlphaE1LineResult{calls: calls, end: yok1StrongWolfeNWAlphaE1SearchTiny}
+			return yok1StrongWolfeNWAlphaE1AcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
 		}
 		if calls >= budget {
 			return yok1StrongWolfeNWAlphaE1LineResult{calls: calls, end: yok1StrongWolfeNWAlphaE1SearchOutOfBudget}
@@ -364,6 +407,7 @@ func yok1StrongWolfeNWAlphaE1LineSearch(x *[1]float64, fx float64, d *[1]float64
 		previous := low
 		if !yok1StrongWolfeNWAlphaE1Finite(current.value) || current.value > fx+yok1StrongWolfeNWAlphaE1StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
+			flat = flat || yok1StrongWolfeNWAlphaE1Finite(current.value) && yok1StrongWolfeNWAlphaE1FlatTrial(fx, current.value, t, slope)
 		} else {
 			if calls+yok1StrongWolfeNWAlphaE1DerivativeCost > budget {
 				return yok1StrongWolfeNWAlphaE1LineResult{calls: calls, end: yok1StrongWolfeNWAlphaE1SearchOutOfBudget}
@@ -390,6 +434,9 @@ func yok1StrongWolfeNWAlphaE1LineSearch(x *[1]float64, fx float64, d *[1]float64
 			t = yok1StrongWolfeNWAlphaE1ExpandTrial(&previous, &current)
 		}
 	}
+	if low.step > 0 {
+		return yok1StrongWolfeNWAlphaE1AcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+	}
 	return yok1StrongWolfeNWAlphaE1LineResult{calls: calls, end: yok1StrongWolfeNWAlphaE1SearchExhausted}
 }
 
@@ -399,6 +446,7 @@ type yok1StrongWolfeNWAlphaE1LineResult struct {
 	value    float64                           // f(x + t·d)
 	calls    int                               // objective calls spent, finite differences included
 	gradient bool                              // whether gt holds ∇f(x + t·d) already
+	flat     bool                              // whether a failed trial found f flat along d (see yok1StrongWolfeNWAlphaE1FlatTrial)
 	end      yok1StrongWolfeNWAlphaE1SearchEnd // how the search ended
 }
 
@@ -412,10 +460,10 @@ type yok1StrongWolfeNWAlphaE1LinePoint struct {
 	hasSlope           bool
 }
 
-// yok1StrongWolfeNWAlphaE1TinyOrExhausted ends a search that has run below the step limit: x is
-// converged to the step limit when the last failure was a finite increase
-// of f, but a non-finite value says nothing about f near x, so the search
-// has simply failed.
+// yok1StrongWolfeNWAlphaE1TinyOrExhausted ends a search that has run below the step limit: no
+// decrease was found when the last failure was a finite value, but a
+// non-finite value says nothing about f near x, so the search has simply
+// failed.
 func yok1StrongWolfeNWAlphaE1TinyOrExhausted(lastFinite bool) yok1StrongWolfeNWAlphaE1SearchEnd {
 	if lastFinite {
 		return yok1StrongWolfeNWAlphaE1SearchTiny
@@ -427,14 +475,46 @@ const (
 	yok1StrongWolfeNWAlphaE1SearchAccepted    yok1StrongWolfeNWAlphaE1SearchEnd = iota // a step met the rule
 	yok1StrongWolfeNWAlphaE1SearchExhausted                                            // yok1StrongWolfeNWAlphaE1StepTrials trials met none
 	yok1StrongWolfeNWAlphaE1SearchOutOfBudget                                          // the evaluation cap came first
-	yok1StrongWolfeNWAlphaE1SearchTiny                                                 // every step longer than tiny failed: x is converged to the step limit
+	yok1StrongWolfeNWAlphaE1SearchTiny                                                 // every step longer than tiny failed to decrease f
 )
+
+// yok1StrongWolfeNWAlphaE1AcceptLow ends a Wolfe search with its best trial, which met sufficient
+// decrease though not the curvature condition, when the bracket collapsed
+// or the trials ran out. Its gradient was kept in lowGradient. (When the
+// budget runs out the search ends without a step instead, so that a capped
+// run follows the uncapped run's path up to the cap.)
+func yok1StrongWolfeNWAlphaE1AcceptLow(x, d *[1]float64, low *yok1StrongWolfeNWAlphaE1LinePoint, lowGradient *[1]float64, calls int, xt, gt *[1]float64) yok1StrongWolfeNWAlphaE1LineResult {
+	yok1StrongWolfeNWAlphaE1MoveTo(xt, x, low.step, d)
+	*gt = *lowGradient
+	return yok1StrongWolfeNWAlphaE1LineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: yok1StrongWolfeNWAlphaE1SearchAccepted}
+}
 
 // yok1StrongWolfeNWAlphaE1MoveTo sets out = x + t·d.
 func yok1StrongWolfeNWAlphaE1MoveTo(out, x *[1]float64, t float64, d *[1]float64) {
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
+}
+
+// yok1StrongWolfeNWAlphaE1FlatTrial reports whether a failed trial t found f flat along d, to
+// the accuracy the gradient and f allow, so that no decrease can be
+// expected from any step:
+//
+//   - the change f(x + t·d) − f(x) = ft − fx is at most half the
+//     first-order prediction t·∇fᵀd in size: near a minimizer whose
+//     gradient is known only roughly (differences), the true slope along
+//     d is below that accuracy. A wrong gradient makes f rise about as
+//     fast as it predicts a fall, and never passes. This is the ratio of
+//     actual to predicted reduction of trust-region methods (Nocedal &
+//     Wright 2006, eq. 4.4);
+//   - or the prediction itself, |t·∇fᵀd|, is below the rounding unit of
+//     f, u·|f(x)|: no change that small can show in floating point, so x
+//     is a minimizer to working precision (Dennis & Schnabel 1983, §7.2,
+//     relate the gradient test to the precision of f; recalled from
+//     memory).
+func yok1StrongWolfeNWAlphaE1FlatTrial(fx, ft, t, slope float64) bool {
+	predicted := yok1StrongWolfeNWAlphaE1Abs(t * slope)
+	return yok1StrongWolfeNWAlphaE1Abs(ft-fx) <= 0.5*predicted || predicted <= yok1StrongWolfeNWAlphaE1UnitRoundoff*yok1StrongWolfeNWAlphaE1Abs(fx)
 }
 
 // yok1StrongWolfeNWAlphaE1CurvatureMet is the strong Wolfe curvature condition
@@ -492,7 +572,16 @@ func yok1StrongWolfeNWAlphaE1SquareRoot(v float64) float64 {
 // yok1StrongWolfeNWAlphaE1ClampBetween returns v limited to the interval with ends a and b, in
 // either order.
 func yok1StrongWolfeNWAlphaE1ClampBetween(v, a, b float64) float64 {
-	return max(min(a, b), min(max(a, b), v))
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
 }
 
 // yok1StrongWolfeNWAlphaE1ExpandTrial picks a larger trial after current met sufficient decrease

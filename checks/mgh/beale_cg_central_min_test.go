@@ -28,10 +28,13 @@ func TestBealeCGCentralAllocatesNothing(t *testing.T) {
 	}
 }
 
-// TestBealeCGCentralRespectsEvaluationCap caps the run below what it needs and checks that the cap is never exceeded and that the run says why it stopped.
+// TestBealeCGCentralRespectsEvaluationCap caps the run below what it needs (0–63, powers of two, and one short) and checks that the cap is never exceeded and that the run says why it stopped.
 func TestBealeCGCentralRespectsEvaluationCap(t *testing.T) {
 	needed := BealeCGCentral(bealeCGCentralTestStart()).Evaluations
-	for cap := 0; cap < needed; cap += 1 + cap/16 {
+	for cap := 0; cap < needed; cap++ {
+		if cap >= 64 && cap&(cap-1) != 0 && cap != needed-1 {
+			continue
+		}
 		limits := BealeCGCentralDefaultLimits()
 		limits.Evaluations = cap
 		r := BealeCGCentralWithLimits(bealeCGCentralTestStart(), limits)
@@ -45,7 +48,7 @@ func TestBealeCGCentralRespectsEvaluationCap(t *testing.T) {
 func BenchmarkBealeCGCentral(b *testing.B) {
 	var r BealeCGCentralResult
 	b.ReportAllocs()
-	for b.Loop() {
+	for i := 0; i < b.N; i++ {
 		r = BealeCGCentral(bealeCGCentralTestStart())
 	}
 	b.ReportMetric(float64(r.Evaluations), "evaluations/op")

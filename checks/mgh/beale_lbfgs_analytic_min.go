@@ -10,18 +10,20 @@ type BealeLBFGSAnalyticStatus uint8
 const (
 	// BealeLBFGSAnalyticGradientSmall: the largest gradient component fell to the gradient limit: converged.
 	BealeLBFGSAnalyticGradientSmall BealeLBFGSAnalyticStatus = iota + 1
-	// BealeLBFGSAnalyticStepTiny: the last step was at most the step limit relative to ‖x‖∞ + 1: converged.
+	// BealeLBFGSAnalyticStepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f while f was flat to the accuracy of the gradient (always so with finite differences): converged.
 	BealeLBFGSAnalyticStepTiny
 	// BealeLBFGSAnalyticOutOfIterations: the iteration limit came first.
 	BealeLBFGSAnalyticOutOfIterations
 	// BealeLBFGSAnalyticOutOfEvaluations: the next objective call would have exceeded the evaluation cap.
 	BealeLBFGSAnalyticOutOfEvaluations
-	// BealeLBFGSAnalyticNoAcceptableStep: no trial of the line search met the step rule within its trials.
+	// BealeLBFGSAnalyticNoAcceptableStep: no trial of the line search met the step rule at a finite point within its trials.
 	BealeLBFGSAnalyticNoAcceptableStep
 	// BealeLBFGSAnalyticNonFiniteStart: x0 or the objective at x0 is NaN or ±Inf.
 	BealeLBFGSAnalyticNonFiniteStart
 	// BealeLBFGSAnalyticNonFiniteGradient: a gradient component became NaN or ±Inf.
 	BealeLBFGSAnalyticNonFiniteGradient
+	// BealeLBFGSAnalyticNoDecrease: no step longer than the step limit decreased f, and f rose about as fast as the analytic gradient said it would fall: the gradient is probably wrong (see the generated gradient test).
+	BealeLBFGSAnalyticNoDecrease
 )
 
 // String describes the status in a few words.
@@ -41,6 +43,8 @@ func (s BealeLBFGSAnalyticStatus) String() string {
 		return "non-finite start"
 	case BealeLBFGSAnalyticNonFiniteGradient:
 		return "non-finite gradient"
+	case BealeLBFGSAnalyticNoDecrease:
+		return "no decrease"
 	default:
 		return "unknown status"
 	}
@@ -63,7 +67,7 @@ type BealeLBFGSAnalyticResult struct {
 // BealeLBFGSAnalyticLimits are the stop limits of one run. Pass them to BealeLBFGSAnalyticWithLimits to change them at run time; BealeLBFGSAnalyticDefaultLimits returns the spec's.
 type BealeLBFGSAnalyticLimits struct {
 	Gradient    float64 // stop when the largest |∂f/∂xᵢ| is at most this
-	Step        float64 // stop when the largest |Δxᵢ| is at most this·(‖x‖∞ + 1)
+	Step        float64 // stop when every |Δxᵢ| is at most this·(|xᵢ| + 1)
 	Iterations  int     // most accepted steps
 	Evaluations int     // hard cap on objective calls, finite differences included; never exceeded
 }
@@ -84,7 +88,7 @@ func BealeLBFGSAnalyticDefaultLimits() BealeLBFGSAnalyticLimits {
 // Step rule wolfe: bracket and zoom until sufficient decrease and the curvature condition hold.
 // Derivative analytic: the user's own gradient function (spec key `gradient`); costs no objective calls.
 // Constants: initial 1.0, c1 0.0001, c2 0.9, at most 40 trials per line search, memory 5 pairs.
-// Default stop: largest gradient component ≤ 1e-08, step ≤ 1e-14·(‖x‖∞ + 1), 5000 iterations, 200000 objective calls.
+// Default stop: largest gradient component ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
 //
 // Worst case: 200000 objective calls (the evaluation cap; the iteration limit alone would allow 200001). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
@@ -122,9 +126,11 @@ const (
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
 //  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged);
+//     steps shorter than the step limit are left to try (converged when
+//     f was flat along d or the gradient is a difference, else no
+//     decrease);
 //  5. move, refresh the gradient, let the direction learn from the step;
-//  6. stop when the step is at most lim.Step·(‖x‖∞ + 1).
+//  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
 //
 // Before every objective call it checks that lim.Evaluations leaves room
 // for it, so the cap is never exceeded. A NaN or ±Inf at the start or in a
@@ -162,7 +168,7 @@ func bealeLBFGSAnalyticMinimize(x0 [2]float64, lim BealeLBFGSAnalyticLimits) bea
 			return out
 		}
 		if out.iterations > 0 {
-			if bealeLBFGSAnalyticMaxAbs(&s) <= lim.Step*(bealeLBFGSAnalyticMaxAbs(&x)+1) {
+			if bealeLBFGSAnalyticStepWithin(&s, &x, lim.Step) {
 				out.status = BealeLBFGSAnalyticStepTiny
 				return out
 			}
@@ -174,7 +180,7 @@ func bealeLBFGSAnalyticMinimize(x0 [2]float64, lim BealeLBFGSAnalyticLimits) bea
 		}
 		dir.compute(&g, &d)
 		now := bealeLBFGSAnalyticDot(&g, &d)
-		if !(now < 0) {
+		if !(now < 0) || !bealeLBFGSAnalyticFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
 			dir.compute(&g, &d)
 			now = bealeLBFGSAnalyticDot(&g, &d)
@@ -183,7 +189,7 @@ func bealeLBFGSAnalyticMinimize(x0 [2]float64, lim BealeLBFGSAnalyticLimits) bea
 		if out.iterations > 0 {
 			first = dir.firstTrial(t, slope, now)
 		}
-		tiny := lim.Step * (bealeLBFGSAnalyticMaxAbs(&x) + 1) / bealeLBFGSAnalyticMaxAbs(&d) // steps t ≤ tiny pass the step test
+		tiny := bealeLBFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
 		found := bealeLBFGSAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt)
 		out.evaluations += found.calls
 		switch found.end {
@@ -193,13 +199,27 @@ func bealeLBFGSAnalyticMinimize(x0 [2]float64, lim BealeLBFGSAnalyticLimits) bea
 			out.status = BealeLBFGSAnalyticNoAcceptableStep
 			return out
 		case bealeLBFGSAnalyticSearchTiny:
-			out.status = BealeLBFGSAnalyticStepTiny
+			// Converged to the step limit when f was flat along d to the
+			// accuracy available (see bealeLBFGSAnalyticFlatTrial), and always with finite
+			// differences: their error, not the true slope, then steers d,
+			// so x is stationary to the accuracy of the differences. With
+			// an analytic gradient that f contradicts, it is not.
+			out.status = BealeLBFGSAnalyticNoDecrease
+			if found.flat || bealeLBFGSAnalyticDerivativeCost > 0 {
+				out.status = BealeLBFGSAnalyticStepTiny
+			}
+			return out
+		}
+		if !bealeLBFGSAnalyticFiniteVec(&xt) {
+			out.status = BealeLBFGSAnalyticNoAcceptableStep // the accepted trial overflowed x
 			return out
 		}
 		if !found.gradient {
 			if out.evaluations+bealeLBFGSAnalyticDerivativeCost > lim.Evaluations {
-				out.x, out.f = xt, found.value // keep the better point even without its gradient
-				out.iterations++
+				if found.value < fx { // keep a better point even without its gradient
+					out.x, out.f = xt, found.value
+					out.iterations++
+				}
 				return out
 			}
 			bealeLBFGSAnalyticDerivative(&xt, found.value, &gt)
@@ -271,7 +291,7 @@ type bealeLBFGSAnalyticDirection struct {
 	s, y   [bealeLBFGSAnalyticLbfgsMemory][2]float64
 	rho    [bealeLBFGSAnalyticLbfgsMemory]float64
 	newest int // index of the newest pair
-	count  int
+	count  int // pairs held, at most bealeLBFGSAnalyticLbfgsMemory
 }
 
 func (s *bealeLBFGSAnalyticDirection) reset() {
@@ -356,13 +376,14 @@ func bealeLBFGSAnalyticNegate(out, x *[2]float64) {
 
 // bealeLBFGSAnalyticCurvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
 // update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
-// as (sᵀy)² > u·(sᵀs)(yᵀy) with u the unit roundoff, so that the updated
+// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
+// that float32 does not overflow, with u the unit roundoff, so that the updated
 // matrix stays positive definite and well conditioned (Nocedal & Wright
 // 2006, §6.1, condition 6.7; the relative threshold √u·‖s‖‖y‖ is from
 // Dennis & Schnabel 1983, Algorithm A9.4.1, recalled from memory).
 func bealeLBFGSAnalyticCurvatureSafe(s, y *[2]float64) bool {
 	sy := bealeLBFGSAnalyticDot(s, y)
-	return sy > 0 && sy*sy > bealeLBFGSAnalyticUnitRoundoff*bealeLBFGSAnalyticDot(s, s)*bealeLBFGSAnalyticDot(y, y)
+	return sy > 0 && (sy/bealeLBFGSAnalyticDot(s, s))*(sy/bealeLBFGSAnalyticDot(y, y)) > bealeLBFGSAnalyticUnitRoundoff
 }
 
 // bealeLBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
@@ -382,6 +403,32 @@ func bealeLBFGSAnalyticAbs(v float64) float64 {
 		return -v
 	}
 	return v
+}
+
+// bealeLBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func bealeLBFGSAnalyticStepWithin(s, x *[2]float64, tol float64) bool {
+	for i := range s {
+		if !(bealeLBFGSAnalyticAbs(s[i]) <= tol*(bealeLBFGSAnalyticAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
+}
+
+// bealeLBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
+// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+func bealeLBFGSAnalyticTinyStep(x, d *[2]float64, tol float64) float64 {
+	tiny := float64(-1)
+	for i := range x {
+		if d[i] != 0 {
+			if t := tol * (bealeLBFGSAnalyticAbs(x[i]) + 1) / bealeLBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+	}
+	return tiny
 }
 
 // bealeLBFGSAnalyticLineSearch finds a step meeting the Wolfe conditions
@@ -411,22 +458,18 @@ func bealeLBFGSAnalyticLineSearch(x *[2]float64, fx float64, d *[2]float64, slop
 	var high bealeLBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                  // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	flat := false // whether a trial failing sufficient decrease found f flat
 	t := first
 	calls := 0
 	for trial := 0; trial < bealeLBFGSAnalyticStepTrials; trial++ {
 		if bracketed && bealeLBFGSAnalyticAbs(high.step-low.step) <= tiny {
 			// The bracket is below the step limit: take low when it
-			// decreased f; else x is converged to the step limit, unless
-			// f was not finite there.
+			// decreased f; else no step decreased f, unless f was not
+			// finite there.
 			if low.step == 0 {
-				return bealeLBFGSAnalyticLineResult{calls: calls, end: bealeLBFGSAnalyticTinyOrExhausted(bealeLBFGSAnalyticFinite(high.value))}
+				return bealeLBFGSAnalyticLineResult{calls: calls, flat: flat, end: bealeLBFGSAnalyticTinyOrExhausted(bealeLBFGSAnalyticFinite(high.value))}
 			}
-			bealeLBFGSAnalyticMoveTo(xt, x, low.step, d)
-			*gt = lowGradient
-			return bealeLBFGSAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: bealeLBFGSAnalyticSearchAccepted}
-		}
-		if !bracketed && t <= tiny {
-			return bealeLBFGSAnalyticLineResult{calls: calls, end: bealeLBFGSAnalyticSearchTiny}
+			return bealeLBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
 		}
 		if calls >= budget {
 			return bealeLBFGSAnalyticLineResult{calls: calls, end: bealeLBFGSAnalyticSearchOutOfBudget}
@@ -437,6 +480,7 @@ func bealeLBFGSAnalyticLineSearch(x *[2]float64, fx float64, d *[2]float64, slop
 		previous := low
 		if !bealeLBFGSAnalyticFinite(current.value) || current.value > fx+bealeLBFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
+			flat = flat || bealeLBFGSAnalyticFinite(current.value) && bealeLBFGSAnalyticFlatTrial(fx, current.value, t, slope)
 		} else {
 			if calls+bealeLBFGSAnalyticDerivativeCost > budget {
 				return bealeLBFGSAnalyticLineResult{calls: calls, end: bealeLBFGSAnalyticSearchOutOfBudget}
@@ -463,6 +507,9 @@ func bealeLBFGSAnalyticLineSearch(x *[2]float64, fx float64, d *[2]float64, slop
 			t = bealeLBFGSAnalyticExpandTrial(&previous, &current)
 		}
 	}
+	if low.step > 0 {
+		return bealeLBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+	}
 	return bealeLBFGSAnalyticLineResult{calls: calls, end: bealeLBFGSAnalyticSearchExhausted}
 }
 
@@ -472,6 +519,7 @@ type bealeLBFGSAnalyticLineResult struct {
 	value    float64                     // f(x + t·d)
 	calls    int                         // objective calls spent, finite differences included
 	gradient bool                        // whether gt holds ∇f(x + t·d) already
+	flat     bool                        // whether a failed trial found f flat along d (see bealeLBFGSAnalyticFlatTrial)
 	end      bealeLBFGSAnalyticSearchEnd // how the search ended
 }
 
@@ -485,10 +533,10 @@ type bealeLBFGSAnalyticLinePoint struct {
 	hasSlope           bool
 }
 
-// bealeLBFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: x is
-// converged to the step limit when the last failure was a finite increase
-// of f, but a non-finite value says nothing about f near x, so the search
-// has simply failed.
+// bealeLBFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: no
+// decrease was found when the last failure was a finite value, but a
+// non-finite value says nothing about f near x, so the search has simply
+// failed.
 func bealeLBFGSAnalyticTinyOrExhausted(lastFinite bool) bealeLBFGSAnalyticSearchEnd {
 	if lastFinite {
 		return bealeLBFGSAnalyticSearchTiny
@@ -500,14 +548,46 @@ const (
 	bealeLBFGSAnalyticSearchAccepted    bealeLBFGSAnalyticSearchEnd = iota // a step met the rule
 	bealeLBFGSAnalyticSearchExhausted                                      // bealeLBFGSAnalyticStepTrials trials met none
 	bealeLBFGSAnalyticSearchOutOfBudget                                    // the evaluation cap came first
-	bealeLBFGSAnalyticSearchTiny                                           // every step longer than tiny failed: x is converged to the step limit
+	bealeLBFGSAnalyticSearchTiny                                           // every step longer than tiny failed to decrease f
 )
+
+// bealeLBFGSAnalyticAcceptLow ends a Wolfe search with its best trial, which met sufficient
+// decrease though not the curvature condition, when the bracket collapsed
+// or the trials ran out. Its gradient was kept in lowGradient. (When the
+// budget runs out the search ends without a step instead, so that a capped
+// run follows the uncapped run's path up to the cap.)
+func bealeLBFGSAnalyticAcceptLow(x, d *[2]float64, low *bealeLBFGSAnalyticLinePoint, lowGradient *[2]float64, calls int, xt, gt *[2]float64) bealeLBFGSAnalyticLineResult {
+	bealeLBFGSAnalyticMoveTo(xt, x, low.step, d)
+	*gt = *lowGradient
+	return bealeLBFGSAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: bealeLBFGSAnalyticSearchAccepted}
+}
 
 // bealeLBFGSAnalyticMoveTo sets out = x + t·d.
 func bealeLBFGSAnalyticMoveTo(out, x *[2]float64, t float64, d *[2]float64) {
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
+}
+
+// bealeLBFGSAnalyticFlatTrial reports whether a failed trial t found f flat along d, to
+// the accuracy the gradient and f allow, so that no decrease can be
+// expected from any step:
+//
+//   - the change f(x + t·d) − f(x) = ft − fx is at most half the
+//     first-order prediction t·∇fᵀd in size: near a minimizer whose
+//     gradient is known only roughly (differences), the true slope along
+//     d is below that accuracy. A wrong gradient makes f rise about as
+//     fast as it predicts a fall, and never passes. This is the ratio of
+//     actual to predicted reduction of trust-region methods (Nocedal &
+//     Wright 2006, eq. 4.4);
+//   - or the prediction itself, |t·∇fᵀd|, is below the rounding unit of
+//     f, u·|f(x)|: no change that small can show in floating point, so x
+//     is a minimizer to working precision (Dennis & Schnabel 1983, §7.2,
+//     relate the gradient test to the precision of f; recalled from
+//     memory).
+func bealeLBFGSAnalyticFlatTrial(fx, ft, t, slope float64) bool {
+	predicted := bealeLBFGSAnalyticAbs(t * slope)
+	return bealeLBFGSAnalyticAbs(ft-fx) <= 0.5*predicted || predicted <= bealeLBFGSAnalyticUnitRoundoff*bealeLBFGSAnalyticAbs(fx)
 }
 
 // bealeLBFGSAnalyticCurvatureMet is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)
@@ -565,7 +645,16 @@ func bealeLBFGSAnalyticSquareRoot(v float64) float64 {
 // bealeLBFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
 // either order.
 func bealeLBFGSAnalyticClampBetween(v, a, b float64) float64 {
-	return max(min(a, b), min(max(a, b), v))
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
 }
 
 // bealeLBFGSAnalyticExpandTrial picks a larger trial after current met sufficient decrease

@@ -28,10 +28,13 @@ func TestBealeLBFGSCentralAllocatesNothing(t *testing.T) {
 	}
 }
 
-// TestBealeLBFGSCentralRespectsEvaluationCap caps the run below what it needs and checks that the cap is never exceeded and that the run says why it stopped.
+// TestBealeLBFGSCentralRespectsEvaluationCap caps the run below what it needs (0–63, powers of two, and one short) and checks that the cap is never exceeded and that the run says why it stopped.
 func TestBealeLBFGSCentralRespectsEvaluationCap(t *testing.T) {
 	needed := BealeLBFGSCentral(bealeLBFGSCentralTestStart()).Evaluations
-	for cap := 0; cap < needed; cap += 1 + cap/16 {
+	for cap := 0; cap < needed; cap++ {
+		if cap >= 64 && cap&(cap-1) != 0 && cap != needed-1 {
+			continue
+		}
 		limits := BealeLBFGSCentralDefaultLimits()
 		limits.Evaluations = cap
 		r := BealeLBFGSCentralWithLimits(bealeLBFGSCentralTestStart(), limits)
@@ -45,7 +48,7 @@ func TestBealeLBFGSCentralRespectsEvaluationCap(t *testing.T) {
 func BenchmarkBealeLBFGSCentral(b *testing.B) {
 	var r BealeLBFGSCentralResult
 	b.ReportAllocs()
-	for b.Loop() {
+	for i := 0; i < b.N; i++ {
 		r = BealeLBFGSCentral(bealeLBFGSCentralTestStart())
 	}
 	b.ReportMetric(float64(r.Evaluations), "evaluations/op")

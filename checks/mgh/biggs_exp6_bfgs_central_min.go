@@ -10,18 +10,20 @@ type BiggsEXP6BFGSCentralStatus uint8
 const (
 	// BiggsEXP6BFGSCentralGradientSmall: the largest gradient component fell to the gradient limit: converged.
 	BiggsEXP6BFGSCentralGradientSmall BiggsEXP6BFGSCentralStatus = iota + 1
-	// BiggsEXP6BFGSCentralStepTiny: the last step was at most the step limit relative to ‖x‖∞ + 1: converged.
+	// BiggsEXP6BFGSCentralStepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f while f was flat to the accuracy of the gradient (always so with finite differences): converged.
 	BiggsEXP6BFGSCentralStepTiny
 	// BiggsEXP6BFGSCentralOutOfIterations: the iteration limit came first.
 	BiggsEXP6BFGSCentralOutOfIterations
 	// BiggsEXP6BFGSCentralOutOfEvaluations: the next objective call would have exceeded the evaluation cap.
 	BiggsEXP6BFGSCentralOutOfEvaluations
-	// BiggsEXP6BFGSCentralNoAcceptableStep: no trial of the line search met the step rule within its trials.
+	// BiggsEXP6BFGSCentralNoAcceptableStep: no trial of the line search met the step rule at a finite point within its trials.
 	BiggsEXP6BFGSCentralNoAcceptableStep
 	// BiggsEXP6BFGSCentralNonFiniteStart: x0 or the objective at x0 is NaN or ±Inf.
 	BiggsEXP6BFGSCentralNonFiniteStart
 	// BiggsEXP6BFGSCentralNonFiniteGradient: a gradient component became NaN or ±Inf.
 	BiggsEXP6BFGSCentralNonFiniteGradient
+	// BiggsEXP6BFGSCentralNoDecrease: no step longer than the step limit decreased f, and f rose about as fast as the analytic gradient said it would fall: the gradient is probably wrong (see the generated gradient test).
+	BiggsEXP6BFGSCentralNoDecrease
 )
 
 // String describes the status in a few words.
@@ -41,6 +43,8 @@ func (s BiggsEXP6BFGSCentralStatus) String() string {
 		return "non-finite start"
 	case BiggsEXP6BFGSCentralNonFiniteGradient:
 		return "non-finite gradient"
+	case BiggsEXP6BFGSCentralNoDecrease:
+		return "no decrease"
 	default:
 		return "unknown status"
 	}
@@ -63,7 +67,7 @@ type BiggsEXP6BFGSCentralResult struct {
 // BiggsEXP6BFGSCentralLimits are the stop limits of one run. Pass them to BiggsEXP6BFGSCentralWithLimits to change them at run time; BiggsEXP6BFGSCentralDefaultLimits returns the spec's.
 type BiggsEXP6BFGSCentralLimits struct {
 	Gradient    float64 // stop when the largest |∂f/∂xᵢ| is at most this
-	Step        float64 // stop when the largest |Δxᵢ| is at most this·(‖x‖∞ + 1)
+	Step        float64 // stop when every |Δxᵢ| is at most this·(|xᵢ| + 1)
 	Iterations  int     // most accepted steps
 	Evaluations int     // hard cap on objective calls, finite differences included; never exceeded
 }
@@ -84,7 +88,7 @@ func BiggsEXP6BFGSCentralDefaultLimits() BiggsEXP6BFGSCentralLimits {
 // Step rule wolfe: bracket and zoom until sufficient decrease and the curvature condition hold.
 // Derivative central: central differences: 2·dim objective calls per gradient, error O(u^(2/3)).
 // Constants: initial 1.0, c1 0.0001, c2 0.9, at most 40 trials per line search.
-// Default stop: largest gradient component ≤ 1e-08, step ≤ 1e-14·(‖x‖∞ + 1), 5000 iterations, 200000 objective calls.
+// Default stop: largest gradient component ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
 //
 // Worst case: 200000 objective calls, 12 of them per gradient (the evaluation cap; the iteration limit alone would allow 2600013). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
@@ -122,9 +126,11 @@ const (
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
 //  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged);
+//     steps shorter than the step limit are left to try (converged when
+//     f was flat along d or the gradient is a difference, else no
+//     decrease);
 //  5. move, refresh the gradient, let the direction learn from the step;
-//  6. stop when the step is at most lim.Step·(‖x‖∞ + 1).
+//  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
 //
 // Before every objective call it checks that lim.Evaluations leaves room
 // for it, so the cap is never exceeded. A NaN or ±Inf at the start or in a
@@ -162,7 +168,7 @@ func biggsEXP6BFGSCentralMinimize(x0 [6]float64, lim BiggsEXP6BFGSCentralLimits)
 			return out
 		}
 		if out.iterations > 0 {
-			if biggsEXP6BFGSCentralMaxAbs(&s) <= lim.Step*(biggsEXP6BFGSCentralMaxAbs(&x)+1) {
+			if biggsEXP6BFGSCentralStepWithin(&s, &x, lim.Step) {
 				out.status = BiggsEXP6BFGSCentralStepTiny
 				return out
 			}
@@ -174,7 +180,7 @@ func biggsEXP6BFGSCentralMinimize(x0 [6]float64, lim BiggsEXP6BFGSCentralLimits)
 		}
 		dir.compute(&g, &d)
 		now := biggsEXP6BFGSCentralDot(&g, &d)
-		if !(now < 0) {
+		if !(now < 0) || !biggsEXP6BFGSCentralFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
 			dir.compute(&g, &d)
 			now = biggsEXP6BFGSCentralDot(&g, &d)
@@ -183,7 +189,7 @@ func biggsEXP6BFGSCentralMinimize(x0 [6]float64, lim BiggsEXP6BFGSCentralLimits)
 		if out.iterations > 0 {
 			first = dir.firstTrial(t, slope, now)
 		}
-		tiny := lim.Step * (biggsEXP6BFGSCentralMaxAbs(&x) + 1) / biggsEXP6BFGSCentralMaxAbs(&d) // steps t ≤ tiny pass the step test
+		tiny := biggsEXP6BFGSCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
 		found := biggsEXP6BFGSCentralLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt)
 		out.evaluations += found.calls
 		switch found.end {
@@ -193,13 +199,27 @@ func biggsEXP6BFGSCentralMinimize(x0 [6]float64, lim BiggsEXP6BFGSCentralLimits)
 			out.status = BiggsEXP6BFGSCentralNoAcceptableStep
 			return out
 		case biggsEXP6BFGSCentralSearchTiny:
-			out.status = BiggsEXP6BFGSCentralStepTiny
+			// Converged to the step limit when f was flat along d to the
+			// accuracy available (see biggsEXP6BFGSCentralFlatTrial), and always with finite
+			// differences: their error, not the true slope, then steers d,
+			// so x is stationary to the accuracy of the differences. With
+			// an analytic gradient that f contradicts, it is not.
+			out.status = BiggsEXP6BFGSCentralNoDecrease
+			if found.flat || biggsEXP6BFGSCentralDerivativeCost > 0 {
+				out.status = BiggsEXP6BFGSCentralStepTiny
+			}
+			return out
+		}
+		if !biggsEXP6BFGSCentralFiniteVec(&xt) {
+			out.status = BiggsEXP6BFGSCentralNoAcceptableStep // the accepted trial overflowed x
 			return out
 		}
 		if !found.gradient {
 			if out.evaluations+biggsEXP6BFGSCentralDerivativeCost > lim.Evaluations {
-				out.x, out.f = xt, found.value // keep the better point even without its gradient
-				out.iterations++
+				if found.value < fx { // keep a better point even without its gradient
+					out.x, out.f = xt, found.value
+					out.iterations++
+				}
 				return out
 			}
 			biggsEXP6BFGSCentralDerivative(&xt, found.value, &gt)
@@ -254,7 +274,7 @@ func biggsEXP6BFGSCentralDerivative(x *[6]float64, fx float64, g *[6]float64) {
 	probe := *x
 	for i := range probe {
 		xi := probe[i]
-		h := biggsEXP6BFGSCentralCentralScale * max(1, biggsEXP6BFGSCentralAbs(xi)) // N&W §8.1: h = ∛u·max(1,|x_i|)
+		h := biggsEXP6BFGSCentralCentralScale * biggsEXP6BFGSCentralLarger(1, biggsEXP6BFGSCentralAbs(xi)) // N&W §8.1: h = ∛u·max(1,|x_i|)
 		up := xi + h
 		down := xi - h
 		probe[i] = up
@@ -264,6 +284,16 @@ func biggsEXP6BFGSCentralDerivative(x *[6]float64, fx float64, g *[6]float64) {
 		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
 		probe[i] = xi
 	}
+}
+
+// biggsEXP6BFGSCentralLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func biggsEXP6BFGSCentralLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
 }
 
 // biggsEXP6BFGSCentralAbs returns |v|.
@@ -354,13 +384,14 @@ func biggsEXP6BFGSCentralDot(a, b *[6]float64) float64 {
 
 // biggsEXP6BFGSCentralCurvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
 // update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
-// as (sᵀy)² > u·(sᵀs)(yᵀy) with u the unit roundoff, so that the updated
+// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
+// that float32 does not overflow, with u the unit roundoff, so that the updated
 // matrix stays positive definite and well conditioned (Nocedal & Wright
 // 2006, §6.1, condition 6.7; the relative threshold √u·‖s‖‖y‖ is from
 // Dennis & Schnabel 1983, Algorithm A9.4.1, recalled from memory).
 func biggsEXP6BFGSCentralCurvatureSafe(s, y *[6]float64) bool {
 	sy := biggsEXP6BFGSCentralDot(s, y)
-	return sy > 0 && sy*sy > biggsEXP6BFGSCentralUnitRoundoff*biggsEXP6BFGSCentralDot(s, s)*biggsEXP6BFGSCentralDot(y, y)
+	return sy > 0 && (sy/biggsEXP6BFGSCentralDot(s, s))*(sy/biggsEXP6BFGSCentralDot(y, y)) > biggsEXP6BFGSCentralUnitRoundoff
 }
 
 // biggsEXP6BFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
@@ -372,6 +403,32 @@ func biggsEXP6BFGSCentralMaxAbs(x *[6]float64) float64 {
 		}
 	}
 	return m
+}
+
+// biggsEXP6BFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func biggsEXP6BFGSCentralStepWithin(s, x *[6]float64, tol float64) bool {
+	for i := range s {
+		if !(biggsEXP6BFGSCentralAbs(s[i]) <= tol*(biggsEXP6BFGSCentralAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
+}
+
+// biggsEXP6BFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
+// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+func biggsEXP6BFGSCentralTinyStep(x, d *[6]float64, tol float64) float64 {
+	tiny := float64(-1)
+	for i := range x {
+		if d[i] != 0 {
+			if t := tol * (biggsEXP6BFGSCentralAbs(x[i]) + 1) / biggsEXP6BFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+	}
+	return tiny
 }
 
 // biggsEXP6BFGSCentralLineSearch finds a step meeting the Wolfe conditions
@@ -401,22 +458,18 @@ func biggsEXP6BFGSCentralLineSearch(x *[6]float64, fx float64, d *[6]float64, sl
 	var high biggsEXP6BFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [6]float64                                                    // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	flat := false // whether a trial failing sufficient decrease found f flat
 	t := first
 	calls := 0
 	for trial := 0; trial < biggsEXP6BFGSCentralStepTrials; trial++ {
 		if bracketed && biggsEXP6BFGSCentralAbs(high.step-low.step) <= tiny {
 			// The bracket is below the step limit: take low when it
-			// decreased f; else x is converged to the step limit, unless
-			// f was not finite there.
+			// decreased f; else no step decreased f, unless f was not
+			// finite there.
 			if low.step == 0 {
-				return biggsEXP6BFGSCentralLineResult{calls: calls, end: biggsEXP6BFGSCentralTinyOrExhausted(biggsEXP6BFGSCentralFinite(high.value))}
+				return biggsEXP6BFGSCentralLineResult{calls: calls, flat: flat, end: biggsEXP6BFGSCentralTinyOrExhausted(biggsEXP6BFGSCentralFinite(high.value))}
 			}
-			biggsEXP6BFGSCentralMoveTo(xt, x, low.step, d)
-			*gt = lowGradient
-			return biggsEXP6BFGSCentralLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: biggsEXP6BFGSCentralSearchAccepted}
-		}
-		if !bracketed && t <= tiny {
-			return biggsEXP6BFGSCentralLineResult{calls: calls, end: biggsEXP6BFGSCentralSearchTiny}
+			return biggsEXP6BFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
 		}
 		if calls >= budget {
 			return biggsEXP6BFGSCentralLineResult{calls: calls, end: biggsEXP6BFGSCentralSearchOutOfBudget}
@@ -427,6 +480,7 @@ func biggsEXP6BFGSCentralLineSearch(x *[6]float64, fx float64, d *[6]float64, sl
 		previous := low
 		if !biggsEXP6BFGSCentralFinite(current.value) || current.value > fx+biggsEXP6BFGSCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
+			flat = flat || biggsEXP6BFGSCentralFinite(current.value) && biggsEXP6BFGSCentralFlatTrial(fx, current.value, t, slope)
 		} else {
 			if calls+biggsEXP6BFGSCentralDerivativeCost > budget {
 				return biggsEXP6BFGSCentralLineResult{calls: calls, end: biggsEXP6BFGSCentralSearchOutOfBudget}
@@ -453,6 +507,9 @@ func biggsEXP6BFGSCentralLineSearch(x *[6]float64, fx float64, d *[6]float64, sl
 			t = biggsEXP6BFGSCentralExpandTrial(&previous, &current)
 		}
 	}
+	if low.step > 0 {
+		return biggsEXP6BFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+	}
 	return biggsEXP6BFGSCentralLineResult{calls: calls, end: biggsEXP6BFGSCentralSearchExhausted}
 }
 
@@ -462,6 +519,7 @@ type biggsEXP6BFGSCentralLineResult struct {
 	value    float64                       // f(x + t·d)
 	calls    int                           // objective calls spent, finite differences included
 	gradient bool                          // whether gt holds ∇f(x + t·d) already
+	flat     bool                          // whether a failed trial found f flat along d (see biggsEXP6BFGSCentralFlatTrial)
 	end      biggsEXP6BFGSCentralSearchEnd // how the search ended
 }
 
@@ -475,10 +533,10 @@ type biggsEXP6BFGSCentralLinePoint struct {
 	hasSlope           bool
 }
 
-// biggsEXP6BFGSCentralTinyOrExhausted ends a search that has run below the step limit: x is
-// converged to the step limit when the last failure was a finite increase
-// of f, but a non-finite value says nothing about f near x, so the search
-// has simply failed.
+// biggsEXP6BFGSCentralTinyOrExhausted ends a search that has run below the step limit: no
+// decrease was found when the last failure was a finite value, but a
+// non-finite value says nothing about f near x, so the search has simply
+// failed.
 func biggsEXP6BFGSCentralTinyOrExhausted(lastFinite bool) biggsEXP6BFGSCentralSearchEnd {
 	if lastFinite {
 		return biggsEXP6BFGSCentralSearchTiny
@@ -490,14 +548,46 @@ const (
 	biggsEXP6BFGSCentralSearchAccepted    biggsEXP6BFGSCentralSearchEnd = iota // a step met the rule
 	biggsEXP6BFGSCentralSearchExhausted                                        // biggsEXP6BFGSCentralStepTrials trials met none
 	biggsEXP6BFGSCentralSearchOutOfBudget                                      // the evaluation cap came first
-	biggsEXP6BFGSCentralSearchTiny                                             // every step longer than tiny failed: x is converged to the step limit
+	biggsEXP6BFGSCentralSearchTiny                                             // every step longer than tiny failed to decrease f
 )
+
+// biggsEXP6BFGSCentralAcceptLow ends a Wolfe search with its best trial, which met sufficient
+// decrease though not the curvature condition, when the bracket collapsed
+// or the trials ran out. Its gradient was kept in lowGradient. (When the
+// budget runs out the search ends without a step instead, so that a capped
+// run follows the uncapped run's path up to the cap.)
+func biggsEXP6BFGSCentralAcceptLow(x, d *[6]float64, low *biggsEXP6BFGSCentralLinePoint, lowGradient *[6]float64, calls int, xt, gt *[6]float64) biggsEXP6BFGSCentralLineResult {
+	biggsEXP6BFGSCentralMoveTo(xt, x, low.step, d)
+	*gt = *lowGradient
+	return biggsEXP6BFGSCentralLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: biggsEXP6BFGSCentralSearchAccepted}
+}
 
 // biggsEXP6BFGSCentralMoveTo sets out = x + t·d.
 func biggsEXP6BFGSCentralMoveTo(out, x *[6]float64, t float64, d *[6]float64) {
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
+}
+
+// biggsEXP6BFGSCentralFlatTrial reports whether a failed trial t found f flat along d, to
+// the accuracy the gradient and f allow, so that no decrease can be
+// expected from any step:
+//
+//   - the change f(x + t·d) − f(x) = ft − fx is at most half the
+//     first-order prediction t·∇fᵀd in size: near a minimizer whose
+//     gradient is known only roughly (differences), the true slope along
+//     d is below that accuracy. A wrong gradient makes f rise about as
+//     fast as it predicts a fall, and never passes. This is the ratio of
+//     actual to predicted reduction of trust-region methods (Nocedal &
+//     Wright 2006, eq. 4.4);
+//   - or the prediction itself, |t·∇fᵀd|, is below the rounding unit of
+//     f, u·|f(x)|: no change that small can show in floating point, so x
+//     is a minimizer to working precision (Dennis & Schnabel 1983, §7.2,
+//     relate the gradient test to the precision of f; recalled from
+//     memory).
+func biggsEXP6BFGSCentralFlatTrial(fx, ft, t, slope float64) bool {
+	predicted := biggsEXP6BFGSCentralAbs(t * slope)
+	return biggsEXP6BFGSCentralAbs(ft-fx) <= 0.5*predicted || predicted <= biggsEXP6BFGSCentralUnitRoundoff*biggsEXP6BFGSCentralAbs(fx)
 }
 
 // biggsEXP6BFGSCentralCurvatureMet is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)
@@ -555,7 +645,16 @@ func biggsEXP6BFGSCentralSquareRoot(v float64) float64 {
 // biggsEXP6BFGSCentralClampBetween returns v limited to the interval with ends a and b, in
 // either order.
 func biggsEXP6BFGSCentralClampBetween(v, a, b float64) float64 {
-	return max(min(a, b), min(max(a, b), v))
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
 }
 
 // biggsEXP6BFGSCentralExpandTrial picks a larger trial after current met sufficient decrease

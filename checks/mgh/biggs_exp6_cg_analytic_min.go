@@ -10,18 +10,20 @@ type BiggsEXP6CGAnalyticStatus uint8
 const (
 	// BiggsEXP6CGAnalyticGradientSmall: the largest gradient component fell to the gradient limit: converged.
 	BiggsEXP6CGAnalyticGradientSmall BiggsEXP6CGAnalyticStatus = iota + 1
-	// BiggsEXP6CGAnalyticStepTiny: the last step was at most the step limit relative to ‖x‖∞ + 1: converged.
+	// BiggsEXP6CGAnalyticStepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f while f was flat to the accuracy of the gradient (always so with finite differences): converged.
 	BiggsEXP6CGAnalyticStepTiny
 	// BiggsEXP6CGAnalyticOutOfIterations: the iteration limit came first.
 	BiggsEXP6CGAnalyticOutOfIterations
 	// BiggsEXP6CGAnalyticOutOfEvaluations: the next objective call would have exceeded the evaluation cap.
 	BiggsEXP6CGAnalyticOutOfEvaluations
-	// BiggsEXP6CGAnalyticNoAcceptableStep: no trial of the line search met the step rule within its trials.
+	// BiggsEXP6CGAnalyticNoAcceptableStep: no trial of the line search met the step rule at a finite point within its trials.
 	BiggsEXP6CGAnalyticNoAcceptableStep
 	// BiggsEXP6CGAnalyticNonFiniteStart: x0 or the objective at x0 is NaN or ±Inf.
 	BiggsEXP6CGAnalyticNonFiniteStart
 	// BiggsEXP6CGAnalyticNonFiniteGradient: a gradient component became NaN or ±Inf.
 	BiggsEXP6CGAnalyticNonFiniteGradient
+	// BiggsEXP6CGAnalyticNoDecrease: no step longer than the step limit decreased f, and f rose about as fast as the analytic gradient said it would fall: the gradient is probably wrong (see the generated gradient test).
+	BiggsEXP6CGAnalyticNoDecrease
 )
 
 // String describes the status in a few words.
@@ -41,6 +43,8 @@ func (s BiggsEXP6CGAnalyticStatus) String() string {
 		return "non-finite start"
 	case BiggsEXP6CGAnalyticNonFiniteGradient:
 		return "non-finite gradient"
+	case BiggsEXP6CGAnalyticNoDecrease:
+		return "no decrease"
 	default:
 		return "unknown status"
 	}
@@ -63,7 +67,7 @@ type BiggsEXP6CGAnalyticResult struct {
 // BiggsEXP6CGAnalyticLimits are the stop limits of one run. Pass them to BiggsEXP6CGAnalyticWithLimits to change them at run time; BiggsEXP6CGAnalyticDefaultLimits returns the spec's.
 type BiggsEXP6CGAnalyticLimits struct {
 	Gradient    float64 // stop when the largest |∂f/∂xᵢ| is at most this
-	Step        float64 // stop when the largest |Δxᵢ| is at most this·(‖x‖∞ + 1)
+	Step        float64 // stop when every |Δxᵢ| is at most this·(|xᵢ| + 1)
 	Iterations  int     // most accepted steps
 	Evaluations int     // hard cap on objective calls, finite differences included; never exceeded
 }
@@ -84,7 +88,7 @@ func BiggsEXP6CGAnalyticDefaultLimits() BiggsEXP6CGAnalyticLimits {
 // Step rule strong-wolfe: bracket and zoom until sufficient decrease and the strong curvature condition hold.
 // Derivative analytic: the user's own gradient function (spec key `gradient`); costs no objective calls.
 // Constants: initial 1.0, c1 0.0001, c2 0.1, at most 40 trials per line search.
-// Default stop: largest gradient component ≤ 1e-08, step ≤ 1e-14·(‖x‖∞ + 1), 5000 iterations, 200000 objective calls.
+// Default stop: largest gradient component ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
 //
 // Worst case: 200000 objective calls (the evaluation cap; the iteration limit alone would allow 200001). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
@@ -106,11 +110,12 @@ func BiggsEXP6CGAnalyticWithLimits(x0 [6]float64, limits BiggsEXP6CGAnalyticLimi
 
 // Tunables of BiggsEXP6CGAnalytic from mgh.toml; the kernels below read them.
 const (
-	biggsEXP6CGAnalyticStepInitial    = 1.0    // step.initial
-	biggsEXP6CGAnalyticStepDecrease   = 0.0001 // step.decrease (c1)
-	biggsEXP6CGAnalyticStepCurvature  = 0.1    // step.curvature (c2)
-	biggsEXP6CGAnalyticStepTrials     = 40     // step.trials
-	biggsEXP6CGAnalyticDerivativeCost = 0      // objective calls per gradient
+	biggsEXP6CGAnalyticStepInitial    = 1.0                    // step.initial
+	biggsEXP6CGAnalyticStepDecrease   = 0.0001                 // step.decrease (c1)
+	biggsEXP6CGAnalyticStepCurvature  = 0.1                    // step.curvature (c2)
+	biggsEXP6CGAnalyticStepTrials     = 40                     // step.trials
+	biggsEXP6CGAnalyticDerivativeCost = 0                      // objective calls per gradient
+	biggsEXP6CGAnalyticUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
 )
 
 // biggsEXP6CGAnalyticMinimize runs the descent loop from x0 within lim:
@@ -120,9 +125,11 @@ const (
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
 //  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged);
+//     steps shorter than the step limit are left to try (converged when
+//     f was flat along d or the gradient is a difference, else no
+//     decrease);
 //  5. move, refresh the gradient, let the direction learn from the step;
-//  6. stop when the step is at most lim.Step·(‖x‖∞ + 1).
+//  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
 //
 // Before every objective call it checks that lim.Evaluations leaves room
 // for it, so the cap is never exceeded. A NaN or ±Inf at the start or in a
@@ -160,7 +167,7 @@ func biggsEXP6CGAnalyticMinimize(x0 [6]float64, lim BiggsEXP6CGAnalyticLimits) b
 			return out
 		}
 		if out.iterations > 0 {
-			if biggsEXP6CGAnalyticMaxAbs(&s) <= lim.Step*(biggsEXP6CGAnalyticMaxAbs(&x)+1) {
+			if biggsEXP6CGAnalyticStepWithin(&s, &x, lim.Step) {
 				out.status = BiggsEXP6CGAnalyticStepTiny
 				return out
 			}
@@ -172,7 +179,7 @@ func biggsEXP6CGAnalyticMinimize(x0 [6]float64, lim BiggsEXP6CGAnalyticLimits) b
 		}
 		dir.compute(&g, &d)
 		now := biggsEXP6CGAnalyticDot(&g, &d)
-		if !(now < 0) {
+		if !(now < 0) || !biggsEXP6CGAnalyticFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
 			dir.compute(&g, &d)
 			now = biggsEXP6CGAnalyticDot(&g, &d)
@@ -181,7 +188,7 @@ func biggsEXP6CGAnalyticMinimize(x0 [6]float64, lim BiggsEXP6CGAnalyticLimits) b
 		if out.iterations > 0 {
 			first = dir.firstTrial(t, slope, now)
 		}
-		tiny := lim.Step * (biggsEXP6CGAnalyticMaxAbs(&x) + 1) / biggsEXP6CGAnalyticMaxAbs(&d) // steps t ≤ tiny pass the step test
+		tiny := biggsEXP6CGAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
 		found := biggsEXP6CGAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt)
 		out.evaluations += found.calls
 		switch found.end {
@@ -191,13 +198,27 @@ func biggsEXP6CGAnalyticMinimize(x0 [6]float64, lim BiggsEXP6CGAnalyticLimits) b
 			out.status = BiggsEXP6CGAnalyticNoAcceptableStep
 			return out
 		case biggsEXP6CGAnalyticSearchTiny:
-			out.status = BiggsEXP6CGAnalyticStepTiny
+			// Converged to the step limit when f was flat along d to the
+			// accuracy available (see biggsEXP6CGAnalyticFlatTrial), and always with finite
+			// differences: their error, not the true slope, then steers d,
+			// so x is stationary to the accuracy of the differences. With
+			// an analytic gradient that f contradicts, it is not.
+			out.status = BiggsEXP6CGAnalyticNoDecrease
+			if found.flat || biggsEXP6CGAnalyticDerivativeCost > 0 {
+				out.status = BiggsEXP6CGAnalyticStepTiny
+			}
+			return out
+		}
+		if !biggsEXP6CGAnalyticFiniteVec(&xt) {
+			out.status = BiggsEXP6CGAnalyticNoAcceptableStep // the accepted trial overflowed x
 			return out
 		}
 		if !found.gradient {
 			if out.evaluations+biggsEXP6CGAnalyticDerivativeCost > lim.Evaluations {
-				out.x, out.f = xt, found.value // keep the better point even without its gradient
-				out.iterations++
+				if found.value < fx { // keep a better point even without its gradient
+					out.x, out.f = xt, found.value
+					out.iterations++
+				}
 				return out
 			}
 			biggsEXP6CGAnalyticDerivative(&xt, found.value, &gt)
@@ -277,7 +298,7 @@ func (s *biggsEXP6CGAnalyticDirection) reset() {
 func (s *biggsEXP6CGAnalyticDirection) compute(g, d *[6]float64) {
 	var beta float64
 	if s.steps > 0 && s.steps < 6 && s.squared > 0 {
-		beta = max(biggsEXP6CGAnalyticDot(g, &s.change)/s.squared, 0) // N&W eq. 5.45 (PR+)
+		beta = biggsEXP6CGAnalyticLarger(biggsEXP6CGAnalyticDot(g, &s.change)/s.squared, 0) // N&W eq. 5.45 (PR+)
 	}
 	for i := range d {
 		d[i] = -g[i] + beta*s.previous[i] // N&W eq. 5.44
@@ -296,6 +317,16 @@ func (s *biggsEXP6CGAnalyticDirection) update(step, change *[6]float64) {
 
 func (s *biggsEXP6CGAnalyticDirection) firstTrial(t, slope, now float64) float64 {
 	return biggsEXP6CGAnalyticScaledTrial(t, slope, now)
+}
+
+// biggsEXP6CGAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func biggsEXP6CGAnalyticLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
 }
 
 // biggsEXP6CGAnalyticDot returns aᵀb.
@@ -338,6 +369,32 @@ func biggsEXP6CGAnalyticAbs(v float64) float64 {
 	return v
 }
 
+// biggsEXP6CGAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func biggsEXP6CGAnalyticStepWithin(s, x *[6]float64, tol float64) bool {
+	for i := range s {
+		if !(biggsEXP6CGAnalyticAbs(s[i]) <= tol*(biggsEXP6CGAnalyticAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
+}
+
+// biggsEXP6CGAnalyticTinyStep returns the longest t for which the step t·d from x passes the
+// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+func biggsEXP6CGAnalyticTinyStep(x, d *[6]float64, tol float64) float64 {
+	tiny := float64(-1)
+	for i := range x {
+		if d[i] != 0 {
+			if t := tol * (biggsEXP6CGAnalyticAbs(x[i]) + 1) / biggsEXP6CGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+	}
+	return tiny
+}
+
 // biggsEXP6CGAnalyticLineSearch finds a step meeting the Wolfe conditions
 //
 //	f(x + t·d) ≤ f(x) + c1·t·∇f(x)ᵀd                (sufficient decrease)
@@ -365,22 +422,18 @@ func biggsEXP6CGAnalyticLineSearch(x *[6]float64, fx float64, d *[6]float64, slo
 	var high biggsEXP6CGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [6]float64                                                   // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	flat := false // whether a trial failing sufficient decrease found f flat
 	t := first
 	calls := 0
 	for trial := 0; trial < biggsEXP6CGAnalyticStepTrials; trial++ {
 		if bracketed && biggsEXP6CGAnalyticAbs(high.step-low.step) <= tiny {
 			// The bracket is below the step limit: take low when it
-			// decreased f; else x is converged to the step limit, unless
-			// f was not finite there.
+			// decreased f; else no step decreased f, unless f was not
+			// finite there.
 			if low.step == 0 {
-				return biggsEXP6CGAnalyticLineResult{calls: calls, end: biggsEXP6CGAnalyticTinyOrExhausted(biggsEXP6CGAnalyticFinite(high.value))}
+				return biggsEXP6CGAnalyticLineResult{calls: calls, flat: flat, end: biggsEXP6CGAnalyticTinyOrExhausted(biggsEXP6CGAnalyticFinite(high.value))}
 			}
-			biggsEXP6CGAnalyticMoveTo(xt, x, low.step, d)
-			*gt = lowGradient
-			return biggsEXP6CGAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: biggsEXP6CGAnalyticSearchAccepted}
-		}
-		if !bracketed && t <= tiny {
-			return biggsEXP6CGAnalyticLineResult{calls: calls, end: biggsEXP6CGAnalyticSearchTiny}
+			return biggsEXP6CGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
 		}
 		if calls >= budget {
 			return biggsEXP6CGAnalyticLineResult{calls: calls, end: biggsEXP6CGAnalyticSearchOutOfBudget}
@@ -391,6 +444,7 @@ func biggsEXP6CGAnalyticLineSearch(x *[6]float64, fx float64, d *[6]float64, slo
 		previous := low
 		if !biggsEXP6CGAnalyticFinite(current.value) || current.value > fx+biggsEXP6CGAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
+			flat = flat || biggsEXP6CGAnalyticFinite(current.value) && biggsEXP6CGAnalyticFlatTrial(fx, current.value, t, slope)
 		} else {
 			if calls+biggsEXP6CGAnalyticDerivativeCost > budget {
 				return biggsEXP6CGAnalyticLineResult{calls: calls, end: biggsEXP6CGAnalyticSearchOutOfBudget}
@@ -417,6 +471,9 @@ func biggsEXP6CGAnalyticLineSearch(x *[6]float64, fx float64, d *[6]float64, slo
 			t = biggsEXP6CGAnalyticExpandTrial(&previous, &current)
 		}
 	}
+	if low.step > 0 {
+		return biggsEXP6CGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+	}
 	return biggsEXP6CGAnalyticLineResult{calls: calls, end: biggsEXP6CGAnalyticSearchExhausted}
 }
 
@@ -426,6 +483,7 @@ type biggsEXP6CGAnalyticLineResult struct {
 	value    float64                      // f(x + t·d)
 	calls    int                          // objective calls spent, finite differences included
 	gradient bool                         // whether gt holds ∇f(x + t·d) already
+	flat     bool                         // whether a failed trial found f flat along d (see biggsEXP6CGAnalyticFlatTrial)
 	end      biggsEXP6CGAnalyticSearchEnd // how the search ended
 }
 
@@ -439,10 +497,10 @@ type biggsEXP6CGAnalyticLinePoint struct {
 	hasSlope           bool
 }
 
-// biggsEXP6CGAnalyticTinyOrExhausted ends a search that has run below the step limit: x is
-// converged to the step limit when the last failure was a finite increase
-// of f, but a non-finite value says nothing about f near x, so the search
-// has simply failed.
+// biggsEXP6CGAnalyticTinyOrExhausted ends a search that has run below the step limit: no
+// decrease was found when the last failure was a finite value, but a
+// non-finite value says nothing about f near x, so the search has simply
+// failed.
 func biggsEXP6CGAnalyticTinyOrExhausted(lastFinite bool) biggsEXP6CGAnalyticSearchEnd {
 	if lastFinite {
 		return biggsEXP6CGAnalyticSearchTiny
@@ -454,14 +512,46 @@ const (
 	biggsEXP6CGAnalyticSearchAccepted    biggsEXP6CGAnalyticSearchEnd = iota // a step met the rule
 	biggsEXP6CGAnalyticSearchExhausted                                       // biggsEXP6CGAnalyticStepTrials trials met none
 	biggsEXP6CGAnalyticSearchOutOfBudget                                     // the evaluation cap came first
-	biggsEXP6CGAnalyticSearchTiny                                            // every step longer than tiny failed: x is converged to the step limit
+	biggsEXP6CGAnalyticSearchTiny                                            // every step longer than tiny failed to decrease f
 )
+
+// biggsEXP6CGAnalyticAcceptLow ends a Wolfe search with its best trial, which met sufficient
+// decrease though not the curvature condition, when the bracket collapsed
+// or the trials ran out. Its gradient was kept in lowGradient. (When the
+// budget runs out the search ends without a step instead, so that a capped
+// run follows the uncapped run's path up to the cap.)
+func biggsEXP6CGAnalyticAcceptLow(x, d *[6]float64, low *biggsEXP6CGAnalyticLinePoint, lowGradient *[6]float64, calls int, xt, gt *[6]float64) biggsEXP6CGAnalyticLineResult {
+	biggsEXP6CGAnalyticMoveTo(xt, x, low.step, d)
+	*gt = *lowGradient
+	return biggsEXP6CGAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: biggsEXP6CGAnalyticSearchAccepted}
+}
 
 // biggsEXP6CGAnalyticMoveTo sets out = x + t·d.
 func biggsEXP6CGAnalyticMoveTo(out, x *[6]float64, t float64, d *[6]float64) {
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
+}
+
+// biggsEXP6CGAnalyticFlatTrial reports whether a failed trial t found f flat along d, to
+// the accuracy the gradient and f allow, so that no decrease can be
+// expected from any step:
+//
+//   - the change f(x + t·d) − f(x) = ft − fx is at most half the
+//     first-order prediction t·∇fᵀd in size: near a minimizer whose
+//     gradient is known only roughly (differences), the true slope along
+//     d is below that accuracy. A wrong gradient makes f rise about as
+//     fast as it predicts a fall, and never passes. This is the ratio of
+//     actual to predicted reduction of trust-region methods (Nocedal &
+//     Wright 2006, eq. 4.4);
+//   - or the prediction itself, |t·∇fᵀd|, is below the rounding unit of
+//     f, u·|f(x)|: no change that small can show in floating point, so x
+//     is a minimizer to working precision (Dennis & Schnabel 1983, §7.2,
+//     relate the gradient test to the precision of f; recalled from
+//     memory).
+func biggsEXP6CGAnalyticFlatTrial(fx, ft, t, slope float64) bool {
+	predicted := biggsEXP6CGAnalyticAbs(t * slope)
+	return biggsEXP6CGAnalyticAbs(ft-fx) <= 0.5*predicted || predicted <= biggsEXP6CGAnalyticUnitRoundoff*biggsEXP6CGAnalyticAbs(fx)
 }
 
 // biggsEXP6CGAnalyticCurvatureMet is the strong Wolfe curvature condition
@@ -519,7 +609,16 @@ func biggsEXP6CGAnalyticSquareRoot(v float64) float64 {
 // biggsEXP6CGAnalyticClampBetween returns v limited to the interval with ends a and b, in
 // either order.
 func biggsEXP6CGAnalyticClampBetween(v, a, b float64) float64 {
-	return max(min(a, b), min(max(a, b), v))
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
 }
 
 // biggsEXP6CGAnalyticExpandTrial picks a larger trial after current met sufficient decrease

@@ -28,10 +28,13 @@ func TestBiggsEXP6CGCentralAllocatesNothing(t *testing.T) {
 	}
 }
 
-// TestBiggsEXP6CGCentralRespectsEvaluationCap caps the run below what it needs and checks that the cap is never exceeded and that the run says why it stopped.
+// TestBiggsEXP6CGCentralRespectsEvaluationCap caps the run below what it needs (0–63, powers of two, and one short) and checks that the cap is never exceeded and that the run says why it stopped.
 func TestBiggsEXP6CGCentralRespectsEvaluationCap(t *testing.T) {
 	needed := BiggsEXP6CGCentral(biggsEXP6CGCentralTestStart()).Evaluations
-	for cap := 0; cap < needed; cap += 1 + cap/16 {
+	for cap := 0; cap < needed; cap++ {
+		if cap >= 64 && cap&(cap-1) != 0 && cap != needed-1 {
+			continue
+		}
 		limits := BiggsEXP6CGCentralDefaultLimits()
 		limits.Evaluations = cap
 		r := BiggsEXP6CGCentralWithLimits(biggsEXP6CGCentralTestStart(), limits)
@@ -45,7 +48,7 @@ func TestBiggsEXP6CGCentralRespectsEvaluationCap(t *testing.T) {
 func BenchmarkBiggsEXP6CGCentral(b *testing.B) {
 	var r BiggsEXP6CGCentralResult
 	b.ReportAllocs()
-	for b.Loop() {
+	for i := 0; i < b.N; i++ {
 		r = BiggsEXP6CGCentral(biggsEXP6CGCentralTestStart())
 	}
 	b.ReportMetric(float64(r.Evaluations), "evaluations/op")

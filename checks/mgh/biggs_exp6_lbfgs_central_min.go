@@ -10,18 +10,20 @@ type BiggsEXP6LBFGSCentralStatus uint8
 const (
 	// BiggsEXP6LBFGSCentralGradientSmall: the largest gradient component fell to the gradient limit: converged.
 	BiggsEXP6LBFGSCentralGradientSmall BiggsEXP6LBFGSCentralStatus = iota + 1
-	// BiggsEXP6LBFGSCentralStepTiny: the last step was at most the step limit relative to ‖x‖∞ + 1: converged.
+	// BiggsEXP6LBFGSCentralStepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f while f was flat to the accuracy of the gradient (always so with finite differences): converged.
 	BiggsEXP6LBFGSCentralStepTiny
 	// BiggsEXP6LBFGSCentralOutOfIterations: the iteration limit came first.
 	BiggsEXP6LBFGSCentralOutOfIterations
 	// BiggsEXP6LBFGSCentralOutOfEvaluations: the next objective call would have exceeded the evaluation cap.
 	BiggsEXP6LBFGSCentralOutOfEvaluations
-	// BiggsEXP6LBFGSCentralNoAcceptableStep: no trial of the line search met the step rule within its trials.
+	// BiggsEXP6LBFGSCentralNoAcceptableStep: no trial of the line search met the step rule at a finite point within its trials.
 	BiggsEXP6LBFGSCentralNoAcceptableStep
 	// BiggsEXP6LBFGSCentralNonFiniteStart: x0 or the objective at x0 is NaN or ±Inf.
 	BiggsEXP6LBFGSCentralNonFiniteStart
 	// BiggsEXP6LBFGSCentralNonFiniteGradient: a gradient component became NaN or ±Inf.
 	BiggsEXP6LBFGSCentralNonFiniteGradient
+	// BiggsEXP6LBFGSCentralNoDecrease: no step longer than the step limit decreased f, and f rose about as fast as the analytic gradient said it would fall: the gradient is probably wrong (see the generated gradient test).
+	BiggsEXP6LBFGSCentralNoDecrease
 )
 
 // String describes the status in a few words.
@@ -41,6 +43,8 @@ func (s BiggsEXP6LBFGSCentralStatus) String() string {
 		return "non-finite start"
 	case BiggsEXP6LBFGSCentralNonFiniteGradient:
 		return "non-finite gradient"
+	case BiggsEXP6LBFGSCentralNoDecrease:
+		return "no decrease"
 	default:
 		return "unknown status"
 	}
@@ -63,7 +67,7 @@ type BiggsEXP6LBFGSCentralResult struct {
 // BiggsEXP6LBFGSCentralLimits are the stop limits of one run. Pass them to BiggsEXP6LBFGSCentralWithLimits to change them at run time; BiggsEXP6LBFGSCentralDefaultLimits returns the spec's.
 type BiggsEXP6LBFGSCentralLimits struct {
 	Gradient    float64 // stop when the largest |∂f/∂xᵢ| is at most this
-	Step        float64 // stop when the largest |Δxᵢ| is at most this·(‖x‖∞ + 1)
+	Step        float64 // stop when every |Δxᵢ| is at most this·(|xᵢ| + 1)
 	Iterations  int     // most accepted steps
 	Evaluations int     // hard cap on objective calls, finite differences included; never exceeded
 }
@@ -84,7 +88,7 @@ func BiggsEXP6LBFGSCentralDefaultLimits() BiggsEXP6LBFGSCentralLimits {
 // Step rule wolfe: bracket and zoom until sufficient decrease and the curvature condition hold.
 // Derivative central: central differences: 2·dim objective calls per gradient, error O(u^(2/3)).
 // Constants: initial 1.0, c1 0.0001, c2 0.9, at most 40 trials per line search, memory 5 pairs.
-// Default stop: largest gradient component ≤ 1e-08, step ≤ 1e-14·(‖x‖∞ + 1), 5000 iterations, 200000 objective calls.
+// Default stop: largest gradient component ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
 //
 // Worst case: 200000 objective calls, 12 of them per gradient (the evaluation cap; the iteration limit alone would allow 2600013). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
@@ -123,9 +127,11 @@ const (
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
 //  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged);
+//     steps shorter than the step limit are left to try (converged when
+//     f was flat along d or the gradient is a difference, else no
+//     decrease);
 //  5. move, refresh the gradient, let the direction learn from the step;
-//  6. stop when the step is at most lim.Step·(‖x‖∞ + 1).
+//  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
 //
 // Before every objective call it checks that lim.Evaluations leaves room
 // for it, so the cap is never exceeded. A NaN or ±Inf at the start or in a
@@ -163,7 +169,7 @@ func biggsEXP6LBFGSCentralMinimize(x0 [6]float64, lim BiggsEXP6LBFGSCentralLimit
 			return out
 		}
 		if out.iterations > 0 {
-			if biggsEXP6LBFGSCentralMaxAbs(&s) <= lim.Step*(biggsEXP6LBFGSCentralMaxAbs(&x)+1) {
+			if biggsEXP6LBFGSCentralStepWithin(&s, &x, lim.Step) {
 				out.status = BiggsEXP6LBFGSCentralStepTiny
 				return out
 			}
@@ -175,7 +181,7 @@ func biggsEXP6LBFGSCentralMinimize(x0 [6]float64, lim BiggsEXP6LBFGSCentralLimit
 		}
 		dir.compute(&g, &d)
 		now := biggsEXP6LBFGSCentralDot(&g, &d)
-		if !(now < 0) {
+		if !(now < 0) || !biggsEXP6LBFGSCentralFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
 			dir.compute(&g, &d)
 			now = biggsEXP6LBFGSCentralDot(&g, &d)
@@ -184,7 +190,7 @@ func biggsEXP6LBFGSCentralMinimize(x0 [6]float64, lim BiggsEXP6LBFGSCentralLimit
 		if out.iterations > 0 {
 			first = dir.firstTrial(t, slope, now)
 		}
-		tiny := lim.Step * (biggsEXP6LBFGSCentralMaxAbs(&x) + 1) / biggsEXP6LBFGSCentralMaxAbs(&d) // steps t ≤ tiny pass the step test
+		tiny := biggsEXP6LBFGSCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
 		found := biggsEXP6LBFGSCentralLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt)
 		out.evaluations += found.calls
 		switch found.end {
@@ -194,13 +200,27 @@ func biggsEXP6LBFGSCentralMinimize(x0 [6]float64, lim BiggsEXP6LBFGSCentralLimit
 			out.status = BiggsEXP6LBFGSCentralNoAcceptableStep
 			return out
 		case biggsEXP6LBFGSCentralSearchTiny:
-			out.status = BiggsEXP6LBFGSCentralStepTiny
+			// Converged to the step limit when f was flat along d to the
+			// accuracy available (see biggsEXP6LBFGSCentralFlatTrial), and always with finite
+			// differences: their error, not the true slope, then steers d,
+			// so x is stationary to the accuracy of the differences. With
+			// an analytic gradient that f contradicts, it is not.
+			out.status = BiggsEXP6LBFGSCentralNoDecrease
+			if found.flat || biggsEXP6LBFGSCentralDerivativeCost > 0 {
+				out.status = BiggsEXP6LBFGSCentralStepTiny
+			}
+			return out
+		}
+		if !biggsEXP6LBFGSCentralFiniteVec(&xt) {
+			out.status = BiggsEXP6LBFGSCentralNoAcceptableStep // the accepted trial overflowed x
 			return out
 		}
 		if !found.gradient {
 			if out.evaluations+biggsEXP6LBFGSCentralDerivativeCost > lim.Evaluations {
-				out.x, out.f = xt, found.value // keep the better point even without its gradient
-				out.iterations++
+				if found.value < fx { // keep a better point even without its gradient
+					out.x, out.f = xt, found.value
+					out.iterations++
+				}
 				return out
 			}
 			biggsEXP6LBFGSCentralDerivative(&xt, found.value, &gt)
@@ -255,7 +275,7 @@ func biggsEXP6LBFGSCentralDerivative(x *[6]float64, fx float64, g *[6]float64) {
 	probe := *x
 	for i := range probe {
 		xi := probe[i]
-		h := biggsEXP6LBFGSCentralCentralScale * max(1, biggsEXP6LBFGSCentralAbs(xi)) // N&W §8.1: h = ∛u·max(1,|x_i|)
+		h := biggsEXP6LBFGSCentralCentralScale * biggsEXP6LBFGSCentralLarger(1, biggsEXP6LBFGSCentralAbs(xi)) // N&W §8.1: h = ∛u·max(1,|x_i|)
 		up := xi + h
 		down := xi - h
 		probe[i] = up
@@ -265,6 +285,16 @@ func biggsEXP6LBFGSCentralDerivative(x *[6]float64, fx float64, g *[6]float64) {
 		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
 		probe[i] = xi
 	}
+}
+
+// biggsEXP6LBFGSCentralLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func biggsEXP6LBFGSCentralLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
 }
 
 // biggsEXP6LBFGSCentralAbs returns |v|.
@@ -297,7 +327,7 @@ type biggsEXP6LBFGSCentralDirection struct {
 	s, y   [biggsEXP6LBFGSCentralLbfgsMemory][6]float64
 	rho    [biggsEXP6LBFGSCentralLbfgsMemory]float64
 	newest int // index of the newest pair
-	count  int
+	count  int // pairs held, at most biggsEXP6LBFGSCentralLbfgsMemory
 }
 
 func (s *biggsEXP6LBFGSCentralDirection) reset() {
@@ -382,13 +412,14 @@ func biggsEXP6LBFGSCentralNegate(out, x *[6]float64) {
 
 // biggsEXP6LBFGSCentralCurvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
 // update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
-// as (sᵀy)² > u·(sᵀs)(yᵀy) with u the unit roundoff, so that the updated
+// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
+// that float32 does not overflow, with u the unit roundoff, so that the updated
 // matrix stays positive definite and well conditioned (Nocedal & Wright
 // 2006, §6.1, condition 6.7; the relative threshold √u·‖s‖‖y‖ is from
 // Dennis & Schnabel 1983, Algorithm A9.4.1, recalled from memory).
 func biggsEXP6LBFGSCentralCurvatureSafe(s, y *[6]float64) bool {
 	sy := biggsEXP6LBFGSCentralDot(s, y)
-	return sy > 0 && sy*sy > biggsEXP6LBFGSCentralUnitRoundoff*biggsEXP6LBFGSCentralDot(s, s)*biggsEXP6LBFGSCentralDot(y, y)
+	return sy > 0 && (sy/biggsEXP6LBFGSCentralDot(s, s))*(sy/biggsEXP6LBFGSCentralDot(y, y)) > biggsEXP6LBFGSCentralUnitRoundoff
 }
 
 // biggsEXP6LBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
@@ -400,6 +431,32 @@ func biggsEXP6LBFGSCentralMaxAbs(x *[6]float64) float64 {
 		}
 	}
 	return m
+}
+
+// biggsEXP6LBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func biggsEXP6LBFGSCentralStepWithin(s, x *[6]float64, tol float64) bool {
+	for i := range s {
+		if !(biggsEXP6LBFGSCentralAbs(s[i]) <= tol*(biggsEXP6LBFGSCentralAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
+}
+
+// biggsEXP6LBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
+// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+func biggsEXP6LBFGSCentralTinyStep(x, d *[6]float64, tol float64) float64 {
+	tiny := float64(-1)
+	for i := range x {
+		if d[i] != 0 {
+			if t := tol * (biggsEXP6LBFGSCentralAbs(x[i]) + 1) / biggsEXP6LBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+	}
+	return tiny
 }
 
 // biggsEXP6LBFGSCentralLineSearch finds a step meeting the Wolfe conditions
@@ -429,22 +486,18 @@ func biggsEXP6LBFGSCentralLineSearch(x *[6]float64, fx float64, d *[6]float64, s
 	var high biggsEXP6LBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [6]float64                                                     // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	flat := false // whether a trial failing sufficient decrease found f flat
 	t := first
 	calls := 0
 	for trial := 0; trial < biggsEXP6LBFGSCentralStepTrials; trial++ {
 		if bracketed && biggsEXP6LBFGSCentralAbs(high.step-low.step) <= tiny {
 			// The bracket is below the step limit: take low when it
-			// decreased f; else x is converged to the step limit, unless
-			// f was not finite there.
+			// decreased f; else no step decreased f, unless f was not
+			// finite there.
 			if low.step == 0 {
-				return biggsEXP6LBFGSCentralLineResult{calls: calls, end: biggsEXP6LBFGSCentralTinyOrExhausted(biggsEXP6LBFGSCentralFinite(high.value))}
+				return biggsEXP6LBFGSCentralLineResult{calls: calls, flat: flat, end: biggsEXP6LBFGSCentralTinyOrExhausted(biggsEXP6LBFGSCentralFinite(high.value))}
 			}
-			biggsEXP6LBFGSCentralMoveTo(xt, x, low.step, d)
-			*gt = lowGradient
-			return biggsEXP6LBFGSCentralLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: biggsEXP6LBFGSCentralSearchAccepted}
-		}
-		if !bracketed && t <= tiny {
-			return biggsEXP6LBFGSCentralLineResult{calls: calls, end: biggsEXP6LBFGSCentralSearchTiny}
+			return biggsEXP6LBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
 		}
 		if calls >= budget {
 			return biggsEXP6LBFGSCentralLineResult{calls: calls, end: biggsEXP6LBFGSCentralSearchOutOfBudget}
@@ -455,6 +508,7 @@ func biggsEXP6LBFGSCentralLineSearch(x *[6]float64, fx float64, d *[6]float64, s
 		previous := low
 		if !biggsEXP6LBFGSCentralFinite(current.value) || current.value > fx+biggsEXP6LBFGSCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
+			flat = flat || biggsEXP6LBFGSCentralFinite(current.value) && biggsEXP6LBFGSCentralFlatTrial(fx, current.value, t, slope)
 		} else {
 			if calls+biggsEXP6LBFGSCentralDerivativeCost > budget {
 				return biggsEXP6LBFGSCentralLineResult{calls: calls, end: biggsEXP6LBFGSCentralSearchOutOfBudget}
@@ -481,6 +535,9 @@ func biggsEXP6LBFGSCentralLineSearch(x *[6]float64, fx float64, d *[6]float64, s
 			t = biggsEXP6LBFGSCentralExpandTrial(&previous, &current)
 		}
 	}
+	if low.step > 0 {
+		return biggsEXP6LBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+	}
 	return biggsEXP6LBFGSCentralLineResult{calls: calls, end: biggsEXP6LBFGSCentralSearchExhausted}
 }
 
@@ -490,6 +547,7 @@ type biggsEXP6LBFGSCentralLineResult struct {
 	value    float64                        // f(x + t·d)
 	calls    int                            // objective calls spent, finite differences included
 	gradient bool                           // whether gt holds ∇f(x + t·d) already
+	flat     bool                           // whether a failed trial found f flat along d (see biggsEXP6LBFGSCentralFlatTrial)
 	end      biggsEXP6LBFGSCentralSearchEnd // how the search ended
 }
 
@@ -503,10 +561,10 @@ type biggsEXP6LBFGSCentralLinePoint struct {
 	hasSlope           bool
 }
 
-// biggsEXP6LBFGSCentralTinyOrExhausted ends a search that has run below the step limit: x is
-// converged to the step limit when the last failure was a finite increase
-// of f, but a non-finite value says nothing about f near x, so the search
-// has simply failed.
+// biggsEXP6LBFGSCentralTinyOrExhausted ends a search that has run below the step limit: no
+// decrease was found when the last failure was a finite value, but a
+// non-finite value says nothing about f near x, so the search has simply
+// failed.
 func biggsEXP6LBFGSCentralTinyOrExhausted(lastFinite bool) biggsEXP6LBFGSCentralSearchEnd {
 	if lastFinite {
 		return biggsEXP6LBFGSCentralSearchTiny
@@ -518,14 +576,46 @@ const (
 	biggsEXP6LBFGSCentralSearchAccepted    biggsEXP6LBFGSCentralSearchEnd = iota // a step met the rule
 	biggsEXP6LBFGSCentralSearchExhausted                                         // biggsEXP6LBFGSCentralStepTrials trials met none
 	biggsEXP6LBFGSCentralSearchOutOfBudget                                       // the evaluation cap came first
-	biggsEXP6LBFGSCentralSearchTiny                                              // every step longer than tiny failed: x is converged to the step limit
+	biggsEXP6LBFGSCentralSearchTiny                                              // every step longer than tiny failed to decrease f
 )
+
+// biggsEXP6LBFGSCentralAcceptLow ends a Wolfe search with its best trial, which met sufficient
+// decrease though not the curvature condition, when the bracket collapsed
+// or the trials ran out. Its gradient was kept in lowGradient. (When the
+// budget runs out the search ends without a step instead, so that a capped
+// run follows the uncapped run's path up to the cap.)
+func biggsEXP6LBFGSCentralAcceptLow(x, d *[6]float64, low *biggsEXP6LBFGSCentralLinePoint, lowGradient *[6]float64, calls int, xt, gt *[6]float64) biggsEXP6LBFGSCentralLineResult {
+	biggsEXP6LBFGSCentralMoveTo(xt, x, low.step, d)
+	*gt = *lowGradient
+	return biggsEXP6LBFGSCentralLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: biggsEXP6LBFGSCentralSearchAccepted}
+}
 
 // biggsEXP6LBFGSCentralMoveTo sets out = x + t·d.
 func biggsEXP6LBFGSCentralMoveTo(out, x *[6]float64, t float64, d *[6]float64) {
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
+}
+
+// biggsEXP6LBFGSCentralFlatTrial reports whether a failed trial t found f flat along d, to
+// the accuracy the gradient and f allow, so that no decrease can be
+// expected from any step:
+//
+//   - the change f(x + t·d) − f(x) = ft − fx is at most half the
+//     first-order prediction t·∇fᵀd in size: near a minimizer whose
+//     gradient is known only roughly (differences), the true slope along
+//     d is below that accuracy. A wrong gradient makes f rise about as
+//     fast as it predicts a fall, and never passes. This is the ratio of
+//     actual to predicted reduction of trust-region methods (Nocedal &
+//     Wright 2006, eq. 4.4);
+//   - or the prediction itself, |t·∇fᵀd|, is below the rounding unit of
+//     f, u·|f(x)|: no change that small can show in floating point, so x
+//     is a minimizer to working precision (Dennis & Schnabel 1983, §7.2,
+//     relate the gradient test to the precision of f; recalled from
+//     memory).
+func biggsEXP6LBFGSCentralFlatTrial(fx, ft, t, slope float64) bool {
+	predicted := biggsEXP6LBFGSCentralAbs(t * slope)
+	return biggsEXP6LBFGSCentralAbs(ft-fx) <= 0.5*predicted || predicted <= biggsEXP6LBFGSCentralUnitRoundoff*biggsEXP6LBFGSCentralAbs(fx)
 }
 
 // biggsEXP6LBFGSCentralCurvatureMet is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)
@@ -583,7 +673,16 @@ func biggsEXP6LBFGSCentralSquareRoot(v float64) float64 {
 // biggsEXP6LBFGSCentralClampBetween returns v limited to the interval with ends a and b, in
 // either order.
 func biggsEXP6LBFGSCentralClampBetween(v, a, b float64) float64 {
-	return max(min(a, b), min(max(a, b), v))
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
 }
 
 // biggsEXP6LBFGSCentralExpandTrial picks a larger trial after current met sufficient decrease

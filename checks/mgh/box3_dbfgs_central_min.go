@@ -10,18 +10,20 @@ type Box3DBFGSCentralStatus uint8
 const (
 	// Box3DBFGSCentralGradientSmall: the largest gradient component fell to the gradient limit: converged.
 	Box3DBFGSCentralGradientSmall Box3DBFGSCentralStatus = iota + 1
-	// Box3DBFGSCentralStepTiny: the last step was at most the step limit relative to ‖x‖∞ + 1: converged.
+	// Box3DBFGSCentralStepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f while f was flat to the accuracy of the gradient (always so with finite differences): converged.
 	Box3DBFGSCentralStepTiny
 	// Box3DBFGSCentralOutOfIterations: the iteration limit came first.
 	Box3DBFGSCentralOutOfIterations
 	// Box3DBFGSCentralOutOfEvaluations: the next objective call would have exceeded the evaluation cap.
 	Box3DBFGSCentralOutOfEvaluations
-	// Box3DBFGSCentralNoAcceptableStep: no trial of the line search met the step rule within its trials.
+	// Box3DBFGSCentralNoAcceptableStep: no trial of the line search met the step rule at a finite point within its trials.
 	Box3DBFGSCentralNoAcceptableStep
 	// Box3DBFGSCentralNonFiniteStart: x0 or the objective at x0 is NaN or ±Inf.
 	Box3DBFGSCentralNonFiniteStart
 	// Box3DBFGSCentralNonFiniteGradient: a gradient component became NaN or ±Inf.
 	Box3DBFGSCentralNonFiniteGradient
+	// Box3DBFGSCentralNoDecrease: no step longer than the step limit decreased f, and f rose about as fast as the analytic gradient said it would fall: the gradient is probably wrong (see the generated gradient test).
+	Box3DBFGSCentralNoDecrease
 )
 
 // String describes the status in a few words.
@@ -41,6 +43,8 @@ func (s Box3DBFGSCentralStatus) String() string {
 		return "non-finite start"
 	case Box3DBFGSCentralNonFiniteGradient:
 		return "non-finite gradient"
+	case Box3DBFGSCentralNoDecrease:
+		return "no decrease"
 	default:
 		return "unknown status"
 	}
@@ -63,7 +67,7 @@ type Box3DBFGSCentralResult struct {
 // Box3DBFGSCentralLimits are the stop limits of one run. Pass them to Box3DBFGSCentralWithLimits to change them at run time; Box3DBFGSCentralDefaultLimits returns the spec's.
 type Box3DBFGSCentralLimits struct {
 	Gradient    float64 // stop when the largest |∂f/∂xᵢ| is at most this
-	Step        float64 // stop when the largest |Δxᵢ| is at most this·(‖x‖∞ + 1)
+	Step        float64 // stop when every |Δxᵢ| is at most this·(|xᵢ| + 1)
 	Iterations  int     // most accepted steps
 	Evaluations int     // hard cap on objective calls, finite differences included; never exceeded
 }
@@ -84,7 +88,7 @@ func Box3DBFGSCentralDefaultLimits() Box3DBFGSCentralLimits {
 // Step rule wolfe: bracket and zoom until sufficient decrease and the curvature condition hold.
 // Derivative central: central differences: 2·dim objective calls per gradient, error O(u^(2/3)).
 // Constants: initial 1.0, c1 0.0001, c2 0.9, at most 40 trials per line search.
-// Default stop: largest gradient component ≤ 1e-08, step ≤ 1e-14·(‖x‖∞ + 1), 5000 iterations, 200000 objective calls.
+// Default stop: largest gradient component ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
 //
 // Worst case: 200000 objective calls, 6 of them per gradient (the evaluation cap; the iteration limit alone would allow 1400007). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
@@ -122,9 +126,11 @@ const (
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
 //  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged);
+//     steps shorter than the step limit are left to try (converged when
+//     f was flat along d or the gradient is a difference, else no
+//     decrease);
 //  5. move, refresh the gradient, let the direction learn from the step;
-//  6. stop when the step is at most lim.Step·(‖x‖∞ + 1).
+//  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
 //
 // Before every objective call it checks that lim.Evaluations leaves room
 // for it, so the cap is never exceeded. A NaN or ±Inf at the start or in a
@@ -162,7 +168,7 @@ func box3DBFGSCentralMinimize(x0 [3]float64, lim Box3DBFGSCentralLimits) box3DBF
 			return out
 		}
 		if out.iterations > 0 {
-			if box3DBFGSCentralMaxAbs(&s) <= lim.Step*(box3DBFGSCentralMaxAbs(&x)+1) {
+			if box3DBFGSCentralStepWithin(&s, &x, lim.Step) {
 				out.status = Box3DBFGSCentralStepTiny
 				return out
 			}
@@ -174,7 +180,7 @@ func box3DBFGSCentralMinimize(x0 [3]float64, lim Box3DBFGSCentralLimits) box3DBF
 		}
 		dir.compute(&g, &d)
 		now := box3DBFGSCentralDot(&g, &d)
-		if !(now < 0) {
+		if !(now < 0) || !box3DBFGSCentralFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
 			dir.compute(&g, &d)
 			now = box3DBFGSCentralDot(&g, &d)
@@ -183,7 +189,7 @@ func box3DBFGSCentralMinimize(x0 [3]float64, lim Box3DBFGSCentralLimits) box3DBF
 		if out.iterations > 0 {
 			first = dir.firstTrial(t, slope, now)
 		}
-		tiny := lim.Step * (box3DBFGSCentralMaxAbs(&x) + 1) / box3DBFGSCentralMaxAbs(&d) // steps t ≤ tiny pass the step test
+		tiny := box3DBFGSCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
 		found := box3DBFGSCentralLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt)
 		out.evaluations += found.calls
 		switch found.end {
@@ -193,13 +199,27 @@ func box3DBFGSCentralMinimize(x0 [3]float64, lim Box3DBFGSCentralLimits) box3DBF
 			out.status = Box3DBFGSCentralNoAcceptableStep
 			return out
 		case box3DBFGSCentralSearchTiny:
-			out.status = Box3DBFGSCentralStepTiny
+			// Converged to the step limit when f was flat along d to the
+			// accuracy available (see box3DBFGSCentralFlatTrial), and always with finite
+			// differences: their error, not the true slope, then steers d,
+			// so x is stationary to the accuracy of the differences. With
+			// an analytic gradient that f contradicts, it is not.
+			out.status = Box3DBFGSCentralNoDecrease
+			if found.flat || box3DBFGSCentralDerivativeCost > 0 {
+				out.status = Box3DBFGSCentralStepTiny
+			}
+			return out
+		}
+		if !box3DBFGSCentralFiniteVec(&xt) {
+			out.status = Box3DBFGSCentralNoAcceptableStep // the accepted trial overflowed x
 			return out
 		}
 		if !found.gradient {
 			if out.evaluations+box3DBFGSCentralDerivativeCost > lim.Evaluations {
-				out.x, out.f = xt, found.value // keep the better point even without its gradient
-				out.iterations++
+				if found.value < fx { // keep a better point even without its gradient
+					out.x, out.f = xt, found.value
+					out.iterations++
+				}
 				return out
 			}
 			box3DBFGSCentralDerivative(&xt, found.value, &gt)
@@ -254,7 +274,7 @@ func box3DBFGSCentralDerivative(x *[3]float64, fx float64, g *[3]float64) {
 	probe := *x
 	for i := range probe {
 		xi := probe[i]
-		h := box3DBFGSCentralCentralScale * max(1, box3DBFGSCentralAbs(xi)) // N&W §8.1: h = ∛u·max(1,|x_i|)
+		h := box3DBFGSCentralCentralScale * box3DBFGSCentralLarger(1, box3DBFGSCentralAbs(xi)) // N&W §8.1: h = ∛u·max(1,|x_i|)
 		up := xi + h
 		down := xi - h
 		probe[i] = up
@@ -264,6 +284,16 @@ func box3DBFGSCentralDerivative(x *[3]float64, fx float64, g *[3]float64) {
 		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
 		probe[i] = xi
 	}
+}
+
+// box3DBFGSCentralLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func box3DBFGSCentralLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
 }
 
 // box3DBFGSCentralAbs returns |v|.
@@ -354,13 +384,14 @@ func box3DBFGSCentralDot(a, b *[3]float64) float64 {
 
 // box3DBFGSCentralCurvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
 // update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
-// as (sᵀy)² > u·(sᵀs)(yᵀy) with u the unit roundoff, so that the updated
+// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
+// that float32 does not overflow, with u the unit roundoff, so that the updated
 // matrix stays positive definite and well conditioned (Nocedal & Wright
 // 2006, §6.1, condition 6.7; the relative threshold √u·‖s‖‖y‖ is from
 // Dennis & Schnabel 1983, Algorithm A9.4.1, recalled from memory).
 func box3DBFGSCentralCurvatureSafe(s, y *[3]float64) bool {
 	sy := box3DBFGSCentralDot(s, y)
-	return sy > 0 && sy*sy > box3DBFGSCentralUnitRoundoff*box3DBFGSCentralDot(s, s)*box3DBFGSCentralDot(y, y)
+	return sy > 0 && (sy/box3DBFGSCentralDot(s, s))*(sy/box3DBFGSCentralDot(y, y)) > box3DBFGSCentralUnitRoundoff
 }
 
 // box3DBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
@@ -372,6 +403,32 @@ func box3DBFGSCentralMaxAbs(x *[3]float64) float64 {
 		}
 	}
 	return m
+}
+
+// box3DBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func box3DBFGSCentralStepWithin(s, x *[3]float64, tol float64) bool {
+	for i := range s {
+		if !(box3DBFGSCentralAbs(s[i]) <= tol*(box3DBFGSCentralAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
+}
+
+// box3DBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
+// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+func box3DBFGSCentralTinyStep(x, d *[3]float64, tol float64) float64 {
+	tiny := float64(-1)
+	for i := range x {
+		if d[i] != 0 {
+			if t := tol * (box3DBFGSCentralAbs(x[i]) + 1) / box3DBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+	}
+	return tiny
 }
 
 // box3DBFGSCentralLineSearch finds a step meeting the Wolfe conditions
@@ -401,22 +458,18 @@ func box3DBFGSCentralLineSearch(x *[3]float64, fx float64, d *[3]float64, slope,
 	var high box3DBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                                // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	flat := false // whether a trial failing sufficient decrease found f flat
 	t := first
 	calls := 0
 	for trial := 0; trial < box3DBFGSCentralStepTrials; trial++ {
 		if bracketed && box3DBFGSCentralAbs(high.step-low.step) <= tiny {
 			// The bracket is below the step limit: take low when it
-			// decreased f; else x is converged to the step limit, unless
-			// f was not finite there.
+			// decreased f; else no step decreased f, unless f was not
+			// finite there.
 			if low.step == 0 {
-				return box3DBFGSCentralLineResult{calls: calls, end: box3DBFGSCentralTinyOrExhausted(box3DBFGSCentralFinite(high.value))}
+				return box3DBFGSCentralLineResult{calls: calls, flat: flat, end: box3DBFGSCentralTinyOrExhausted(box3DBFGSCentralFinite(high.value))}
 			}
-			box3DBFGSCentralMoveTo(xt, x, low.step, d)
-			*gt = lowGradient
-			return box3DBFGSCentralLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: box3DBFGSCentralSearchAccepted}
-		}
-		if !bracketed && t <= tiny {
-			return box3DBFGSCentralLineResult{calls: calls, end: box3DBFGSCentralSearchTiny}
+			return box3DBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
 		}
 		if calls >= budget {
 			return box3DBFGSCentralLineResult{calls: calls, end: box3DBFGSCentralSearchOutOfBudget}
@@ -427,6 +480,7 @@ func box3DBFGSCentralLineSearch(x *[3]float64, fx float64, d *[3]float64, slope,
 		previous := low
 		if !box3DBFGSCentralFinite(current.value) || current.value > fx+box3DBFGSCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
+			flat = flat || box3DBFGSCentralFinite(current.value) && box3DBFGSCentralFlatTrial(fx, current.value, t, slope)
 		} else {
 			if calls+box3DBFGSCentralDerivativeCost > budget {
 				return box3DBFGSCentralLineResult{calls: calls, end: box3DBFGSCentralSearchOutOfBudget}
@@ -453,6 +507,9 @@ func box3DBFGSCentralLineSearch(x *[3]float64, fx float64, d *[3]float64, slope,
 			t = box3DBFGSCentralExpandTrial(&previous, &current)
 		}
 	}
+	if low.step > 0 {
+		return box3DBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+	}
 	return box3DBFGSCentralLineResult{calls: calls, end: box3DBFGSCentralSearchExhausted}
 }
 
@@ -462,6 +519,7 @@ type box3DBFGSCentralLineResult struct {
 	value    float64                   // f(x + t·d)
 	calls    int                       // objective calls spent, finite differences included
 	gradient bool                      // whether gt holds ∇f(x + t·d) already
+	flat     bool                      // whether a failed trial found f flat along d (see box3DBFGSCentralFlatTrial)
 	end      box3DBFGSCentralSearchEnd // how the search ended
 }
 
@@ -475,10 +533,10 @@ type box3DBFGSCentralLinePoint struct {
 	hasSlope           bool
 }
 
-// box3DBFGSCentralTinyOrExhausted ends a search that has run below the step limit: x is
-// converged to the step limit when the last failure was a finite increase
-// of f, but a non-finite value says nothing about f near x, so the search
-// has simply failed.
+// box3DBFGSCentralTinyOrExhausted ends a search that has run below the step limit: no
+// decrease was found when the last failure was a finite value, but a
+// non-finite value says nothing about f near x, so the search has simply
+// failed.
 func box3DBFGSCentralTinyOrExhausted(lastFinite bool) box3DBFGSCentralSearchEnd {
 	if lastFinite {
 		return box3DBFGSCentralSearchTiny
@@ -490,14 +548,46 @@ const (
 	box3DBFGSCentralSearchAccepted    box3DBFGSCentralSearchEnd = iota // a step met the rule
 	box3DBFGSCentralSearchExhausted                                    // box3DBFGSCentralStepTrials trials met none
 	box3DBFGSCentralSearchOutOfBudget                                  // the evaluation cap came first
-	box3DBFGSCentralSearchTiny                                         // every step longer than tiny failed: x is converged to the step limit
+	box3DBFGSCentralSearchTiny                                         // every step longer than tiny failed to decrease f
 )
+
+// box3DBFGSCentralAcceptLow ends a Wolfe search with its best trial, which met sufficient
+// decrease though not the curvature condition, when the bracket collapsed
+// or the trials ran out. Its gradient was kept in lowGradient. (When the
+// budget runs out the search ends without a step instead, so that a capped
+// run follows the uncapped run's path up to the cap.)
+func box3DBFGSCentralAcceptLow(x, d *[3]float64, low *box3DBFGSCentralLinePoint, lowGradient *[3]float64, calls int, xt, gt *[3]float64) box3DBFGSCentralLineResult {
+	box3DBFGSCentralMoveTo(xt, x, low.step, d)
+	*gt = *lowGradient
+	return box3DBFGSCentralLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: box3DBFGSCentralSearchAccepted}
+}
 
 // box3DBFGSCentralMoveTo sets out = x + t·d.
 func box3DBFGSCentralMoveTo(out, x *[3]float64, t float64, d *[3]float64) {
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
+}
+
+// box3DBFGSCentralFlatTrial reports whether a failed trial t found f flat along d, to
+// the accuracy the gradient and f allow, so that no decrease can be
+// expected from any step:
+//
+//   - the change f(x + t·d) − f(x) = ft − fx is at most half the
+//     first-order prediction t·∇fᵀd in size: near a minimizer whose
+//     gradient is known only roughly (differences), the true slope along
+//     d is below that accuracy. A wrong gradient makes f rise about as
+//     fast as it predicts a fall, and never passes. This is the ratio of
+//     actual to predicted reduction of trust-region methods (Nocedal &
+//     Wright 2006, eq. 4.4);
+//   - or the prediction itself, |t·∇fᵀd|, is below the rounding unit of
+//     f, u·|f(x)|: no change that small can show in floating point, so x
+//     is a minimizer to working precision (Dennis & Schnabel 1983, §7.2,
+//     relate the gradient test to the precision of f; recalled from
+//     memory).
+func box3DBFGSCentralFlatTrial(fx, ft, t, slope float64) bool {
+	predicted := box3DBFGSCentralAbs(t * slope)
+	return box3DBFGSCentralAbs(ft-fx) <= 0.5*predicted || predicted <= box3DBFGSCentralUnitRoundoff*box3DBFGSCentralAbs(fx)
 }
 
 // box3DBFGSCentralCurvatureMet is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)
@@ -555,7 +645,16 @@ func box3DBFGSCentralSquareRoot(v float64) float64 {
 // box3DBFGSCentralClampBetween returns v limited to the interval with ends a and b, in
 // either order.
 func box3DBFGSCentralClampBetween(v, a, b float64) float64 {
-	return max(min(a, b), min(max(a, b), v))
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
 }
 
 // box3DBFGSCentralExpandTrial picks a larger trial after current met sufficient decrease

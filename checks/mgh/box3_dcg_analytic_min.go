@@ -10,18 +10,20 @@ type Box3DCGAnalyticStatus uint8
 const (
 	// Box3DCGAnalyticGradientSmall: the largest gradient component fell to the gradient limit: converged.
 	Box3DCGAnalyticGradientSmall Box3DCGAnalyticStatus = iota + 1
-	// Box3DCGAnalyticStepTiny: the last step was at most the step limit relative to ‖x‖∞ + 1: converged.
+	// Box3DCGAnalyticStepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f while f was flat to the accuracy of the gradient (always so with finite differences): converged.
 	Box3DCGAnalyticStepTiny
 	// Box3DCGAnalyticOutOfIterations: the iteration limit came first.
 	Box3DCGAnalyticOutOfIterations
 	// Box3DCGAnalyticOutOfEvaluations: the next objective call would have exceeded the evaluation cap.
 	Box3DCGAnalyticOutOfEvaluations
-	// Box3DCGAnalyticNoAcceptableStep: no trial of the line search met the step rule within its trials.
+	// Box3DCGAnalyticNoAcceptableStep: no trial of the line search met the step rule at a finite point within its trials.
 	Box3DCGAnalyticNoAcceptableStep
 	// Box3DCGAnalyticNonFiniteStart: x0 or the objective at x0 is NaN or ±Inf.
 	Box3DCGAnalyticNonFiniteStart
 	// Box3DCGAnalyticNonFiniteGradient: a gradient component became NaN or ±Inf.
 	Box3DCGAnalyticNonFiniteGradient
+	// Box3DCGAnalyticNoDecrease: no step longer than the step limit decreased f, and f rose about as fast as the analytic gradient said it would fall: the gradient is probably wrong (see the generated gradient test).
+	Box3DCGAnalyticNoDecrease
 )
 
 // String describes the status in a few words.
@@ -41,6 +43,8 @@ func (s Box3DCGAnalyticStatus) String() string {
 		return "non-finite start"
 	case Box3DCGAnalyticNonFiniteGradient:
 		return "non-finite gradient"
+	case Box3DCGAnalyticNoDecrease:
+		return "no decrease"
 	default:
 		return "unknown status"
 	}
@@ -63,7 +67,7 @@ type Box3DCGAnalyticResult struct {
 // Box3DCGAnalyticLimits are the stop limits of one run. Pass them to Box3DCGAnalyticWithLimits to change them at run time; Box3DCGAnalyticDefaultLimits returns the spec's.
 type Box3DCGAnalyticLimits struct {
 	Gradient    float64 // stop when the largest |∂f/∂xᵢ| is at most this
-	Step        float64 // stop when the largest |Δxᵢ| is at most this·(‖x‖∞ + 1)
+	Step        float64 // stop when every |Δxᵢ| is at most this·(|xᵢ| + 1)
 	Iterations  int     // most accepted steps
 	Evaluations int     // hard cap on objective calls, finite differences included; never exceeded
 }
@@ -84,7 +88,7 @@ func Box3DCGAnalyticDefaultLimits() Box3DCGAnalyticLimits {
 // Step rule strong-wolfe: bracket and zoom until sufficient decrease and the strong curvature condition hold.
 // Derivative analytic: the user's own gradient function (spec key `gradient`); costs no objective calls.
 // Constants: initial 1.0, c1 0.0001, c2 0.1, at most 40 trials per line search.
-// Default stop: largest gradient component ≤ 1e-08, step ≤ 1e-14·(‖x‖∞ + 1), 5000 iterations, 200000 objective calls.
+// Default stop: largest gradient component ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
 //
 // Worst case: 200000 objective calls (the evaluation cap; the iteration limit alone would allow 200001). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
@@ -106,11 +110,12 @@ func Box3DCGAnalyticWithLimits(x0 [3]float64, limits Box3DCGAnalyticLimits) Box3
 
 // Tunables of Box3DCGAnalytic from mgh.toml; the kernels below read them.
 const (
-	box3DCGAnalyticStepInitial    = 1.0    // step.initial
-	box3DCGAnalyticStepDecrease   = 0.0001 // step.decrease (c1)
-	box3DCGAnalyticStepCurvature  = 0.1    // step.curvature (c2)
-	box3DCGAnalyticStepTrials     = 40     // step.trials
-	box3DCGAnalyticDerivativeCost = 0      // objective calls per gradient
+	box3DCGAnalyticStepInitial    = 1.0                    // step.initial
+	box3DCGAnalyticStepDecrease   = 0.0001                 // step.decrease (c1)
+	box3DCGAnalyticStepCurvature  = 0.1                    // step.curvature (c2)
+	box3DCGAnalyticStepTrials     = 40                     // step.trials
+	box3DCGAnalyticDerivativeCost = 0                      // objective calls per gradient
+	box3DCGAnalyticUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
 )
 
 // box3DCGAnalyticMinimize runs the descent loop from x0 within lim:
@@ -120,9 +125,11 @@ const (
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
 //  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged);
+//     steps shorter than the step limit are left to try (converged when
+//     f was flat along d or the gradient is a difference, else no
+//     decrease);
 //  5. move, refresh the gradient, let the direction learn from the step;
-//  6. stop when the step is at most lim.Step·(‖x‖∞ + 1).
+//  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
 //
 // Before every objective call it checks that lim.Evaluations leaves room
 // for it, so the cap is never exceeded. A NaN or ±Inf at the start or in a
@@ -160,7 +167,7 @@ func box3DCGAnalyticMinimize(x0 [3]float64, lim Box3DCGAnalyticLimits) box3DCGAn
 			return out
 		}
 		if out.iterations > 0 {
-			if box3DCGAnalyticMaxAbs(&s) <= lim.Step*(box3DCGAnalyticMaxAbs(&x)+1) {
+			if box3DCGAnalyticStepWithin(&s, &x, lim.Step) {
 				out.status = Box3DCGAnalyticStepTiny
 				return out
 			}
@@ -172,7 +179,7 @@ func box3DCGAnalyticMinimize(x0 [3]float64, lim Box3DCGAnalyticLimits) box3DCGAn
 		}
 		dir.compute(&g, &d)
 		now := box3DCGAnalyticDot(&g, &d)
-		if !(now < 0) {
+		if !(now < 0) || !box3DCGAnalyticFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
 			dir.compute(&g, &d)
 			now = box3DCGAnalyticDot(&g, &d)
@@ -181,7 +188,7 @@ func box3DCGAnalyticMinimize(x0 [3]float64, lim Box3DCGAnalyticLimits) box3DCGAn
 		if out.iterations > 0 {
 			first = dir.firstTrial(t, slope, now)
 		}
-		tiny := lim.Step * (box3DCGAnalyticMaxAbs(&x) + 1) / box3DCGAnalyticMaxAbs(&d) // steps t ≤ tiny pass the step test
+		tiny := box3DCGAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
 		found := box3DCGAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt)
 		out.evaluations += found.calls
 		switch found.end {
@@ -191,13 +198,27 @@ func box3DCGAnalyticMinimize(x0 [3]float64, lim Box3DCGAnalyticLimits) box3DCGAn
 			out.status = Box3DCGAnalyticNoAcceptableStep
 			return out
 		case box3DCGAnalyticSearchTiny:
-			out.status = Box3DCGAnalyticStepTiny
+			// Converged to the step limit when f was flat along d to the
+			// accuracy available (see box3DCGAnalyticFlatTrial), and always with finite
+			// differences: their error, not the true slope, then steers d,
+			// so x is stationary to the accuracy of the differences. With
+			// an analytic gradient that f contradicts, it is not.
+			out.status = Box3DCGAnalyticNoDecrease
+			if found.flat || box3DCGAnalyticDerivativeCost > 0 {
+				out.status = Box3DCGAnalyticStepTiny
+			}
+			return out
+		}
+		if !box3DCGAnalyticFiniteVec(&xt) {
+			out.status = Box3DCGAnalyticNoAcceptableStep // the accepted trial overflowed x
 			return out
 		}
 		if !found.gradient {
 			if out.evaluations+box3DCGAnalyticDerivativeCost > lim.Evaluations {
-				out.x, out.f = xt, found.value // keep the better point even without its gradient
-				out.iterations++
+				if found.value < fx { // keep a better point even without its gradient
+					out.x, out.f = xt, found.value
+					out.iterations++
+				}
 				return out
 			}
 			box3DCGAnalyticDerivative(&xt, found.value, &gt)
@@ -277,7 +298,7 @@ func (s *box3DCGAnalyticDirection) reset() {
 func (s *box3DCGAnalyticDirection) compute(g, d *[3]float64) {
 	var beta float64
 	if s.steps > 0 && s.steps < 3 && s.squared > 0 {
-		beta = max(box3DCGAnalyticDot(g, &s.change)/s.squared, 0) // N&W eq. 5.45 (PR+)
+		beta = box3DCGAnalyticLarger(box3DCGAnalyticDot(g, &s.change)/s.squared, 0) // N&W eq. 5.45 (PR+)
 	}
 	for i := range d {
 		d[i] = -g[i] + beta*s.previous[i] // N&W eq. 5.44
@@ -296,6 +317,16 @@ func (s *box3DCGAnalyticDirection) update(step, change *[3]float64) {
 
 func (s *box3DCGAnalyticDirection) firstTrial(t, slope, now float64) float64 {
 	return box3DCGAnalyticScaledTrial(t, slope, now)
+}
+
+// box3DCGAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func box3DCGAnalyticLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
 }
 
 // box3DCGAnalyticDot returns aᵀb.
@@ -338,6 +369,32 @@ func box3DCGAnalyticAbs(v float64) float64 {
 	return v
 }
 
+// box3DCGAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func box3DCGAnalyticStepWithin(s, x *[3]float64, tol float64) bool {
+	for i := range s {
+		if !(box3DCGAnalyticAbs(s[i]) <= tol*(box3DCGAnalyticAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
+}
+
+// box3DCGAnalyticTinyStep returns the longest t for which the step t·d from x passes the
+// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+func box3DCGAnalyticTinyStep(x, d *[3]float64, tol float64) float64 {
+	tiny := float64(-1)
+	for i := range x {
+		if d[i] != 0 {
+			if t := tol * (box3DCGAnalyticAbs(x[i]) + 1) / box3DCGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+	}
+	return tiny
+}
+
 // box3DCGAnalyticLineSearch finds a step meeting the Wolfe conditions
 //
 //	f(x + t·d) ≤ f(x) + c1·t·∇f(x)ᵀd                (sufficient decrease)
@@ -365,22 +422,18 @@ func box3DCGAnalyticLineSearch(x *[3]float64, fx float64, d *[3]float64, slope, 
 	var high box3DCGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                               // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	flat := false // whether a trial failing sufficient decrease found f flat
 	t := first
 	calls := 0
 	for trial := 0; trial < box3DCGAnalyticStepTrials; trial++ {
 		if bracketed && box3DCGAnalyticAbs(high.step-low.step) <= tiny {
 			// The bracket is below the step limit: take low when it
-			// decreased f; else x is converged to the step limit, unless
-			// f was not finite there.
+			// decreased f; else no step decreased f, unless f was not
+			// finite there.
 			if low.step == 0 {
-				return box3DCGAnalyticLineResult{calls: calls, end: box3DCGAnalyticTinyOrExhausted(box3DCGAnalyticFinite(high.value))}
+				return box3DCGAnalyticLineResult{calls: calls, flat: flat, end: box3DCGAnalyticTinyOrExhausted(box3DCGAnalyticFinite(high.value))}
 			}
-			box3DCGAnalyticMoveTo(xt, x, low.step, d)
-			*gt = lowGradient
-			return box3DCGAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: box3DCGAnalyticSearchAccepted}
-		}
-		if !bracketed && t <= tiny {
-			return box3DCGAnalyticLineResult{calls: calls, end: box3DCGAnalyticSearchTiny}
+			return box3DCGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
 		}
 		if calls >= budget {
 			return box3DCGAnalyticLineResult{calls: calls, end: box3DCGAnalyticSearchOutOfBudget}
@@ -391,6 +444,7 @@ func box3DCGAnalyticLineSearch(x *[3]float64, fx float64, d *[3]float64, slope, 
 		previous := low
 		if !box3DCGAnalyticFinite(current.value) || current.value > fx+box3DCGAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
+			flat = flat || box3DCGAnalyticFinite(current.value) && box3DCGAnalyticFlatTrial(fx, current.value, t, slope)
 		} else {
 			if calls+box3DCGAnalyticDerivativeCost > budget {
 				return box3DCGAnalyticLineResult{calls: calls, end: box3DCGAnalyticSearchOutOfBudget}
@@ -417,6 +471,9 @@ func box3DCGAnalyticLineSearch(x *[3]float64, fx float64, d *[3]float64, slope, 
 			t = box3DCGAnalyticExpandTrial(&previous, &current)
 		}
 	}
+	if low.step > 0 {
+		return box3DCGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+	}
 	return box3DCGAnalyticLineResult{calls: calls, end: box3DCGAnalyticSearchExhausted}
 }
 
@@ -426,6 +483,7 @@ type box3DCGAnalyticLineResult struct {
 	value    float64                  // f(x + t·d)
 	calls    int                      // objective calls spent, finite differences included
 	gradient bool                     // whether gt holds ∇f(x + t·d) already
+	flat     bool                     // whether a failed trial found f flat along d (see box3DCGAnalyticFlatTrial)
 	end      box3DCGAnalyticSearchEnd // how the search ended
 }
 
@@ -439,10 +497,10 @@ type box3DCGAnalyticLinePoint struct {
 	hasSlope           bool
 }
 
-// box3DCGAnalyticTinyOrExhausted ends a search that has run below the step limit: x is
-// converged to the step limit when the last failure was a finite increase
-// of f, but a non-finite value says nothing about f near x, so the search
-// has simply failed.
+// box3DCGAnalyticTinyOrExhausted ends a search that has run below the step limit: no
+// decrease was found when the last failure was a finite value, but a
+// non-finite value says nothing about f near x, so the search has simply
+// failed.
 func box3DCGAnalyticTinyOrExhausted(lastFinite bool) box3DCGAnalyticSearchEnd {
 	if lastFinite {
 		return box3DCGAnalyticSearchTiny
@@ -454,14 +512,46 @@ const (
 	box3DCGAnalyticSearchAccepted    box3DCGAnalyticSearchEnd = iota // a step met the rule
 	box3DCGAnalyticSearchExhausted                                   // box3DCGAnalyticStepTrials trials met none
 	box3DCGAnalyticSearchOutOfBudget                                 // the evaluation cap came first
-	box3DCGAnalyticSearchTiny                                        // every step longer than tiny failed: x is converged to the step limit
+	box3DCGAnalyticSearchTiny                                        // every step longer than tiny failed to decrease f
 )
+
+// box3DCGAnalyticAcceptLow ends a Wolfe search with its best trial, which met sufficient
+// decrease though not the curvature condition, when the bracket collapsed
+// or the trials ran out. Its gradient was kept in lowGradient. (When the
+// budget runs out the search ends without a step instead, so that a capped
+// run follows the uncapped run's path up to the cap.)
+func box3DCGAnalyticAcceptLow(x, d *[3]float64, low *box3DCGAnalyticLinePoint, lowGradient *[3]float64, calls int, xt, gt *[3]float64) box3DCGAnalyticLineResult {
+	box3DCGAnalyticMoveTo(xt, x, low.step, d)
+	*gt = *lowGradient
+	return box3DCGAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: box3DCGAnalyticSearchAccepted}
+}
 
 // box3DCGAnalyticMoveTo sets out = x + t·d.
 func box3DCGAnalyticMoveTo(out, x *[3]float64, t float64, d *[3]float64) {
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
+}
+
+// box3DCGAnalyticFlatTrial reports whether a failed trial t found f flat along d, to
+// the accuracy the gradient and f allow, so that no decrease can be
+// expected from any step:
+//
+//   - the change f(x + t·d) − f(x) = ft − fx is at most half the
+//     first-order prediction t·∇fᵀd in size: near a minimizer whose
+//     gradient is known only roughly (differences), the true slope along
+//     d is below that accuracy. A wrong gradient makes f rise about as
+//     fast as it predicts a fall, and never passes. This is the ratio of
+//     actual to predicted reduction of trust-region methods (Nocedal &
+//     Wright 2006, eq. 4.4);
+//   - or the prediction itself, |t·∇fᵀd|, is below the rounding unit of
+//     f, u·|f(x)|: no change that small can show in floating point, so x
+//     is a minimizer to working precision (Dennis & Schnabel 1983, §7.2,
+//     relate the gradient test to the precision of f; recalled from
+//     memory).
+func box3DCGAnalyticFlatTrial(fx, ft, t, slope float64) bool {
+	predicted := box3DCGAnalyticAbs(t * slope)
+	return box3DCGAnalyticAbs(ft-fx) <= 0.5*predicted || predicted <= box3DCGAnalyticUnitRoundoff*box3DCGAnalyticAbs(fx)
 }
 
 // box3DCGAnalyticCurvatureMet is the strong Wolfe curvature condition
@@ -519,7 +609,16 @@ func box3DCGAnalyticSquareRoot(v float64) float64 {
 // box3DCGAnalyticClampBetween returns v limited to the interval with ends a and b, in
 // either order.
 func box3DCGAnalyticClampBetween(v, a, b float64) float64 {
-	return max(min(a, b), min(max(a, b), v))
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
 }
 
 // box3DCGAnalyticExpandTrial picks a larger trial after current met sufficient decrease

@@ -10,18 +10,20 @@ type BrownBadlyScaledBFGSCentralStatus uint8
 const (
 	// BrownBadlyScaledBFGSCentralGradientSmall: the largest gradient component fell to the gradient limit: converged.
 	BrownBadlyScaledBFGSCentralGradientSmall BrownBadlyScaledBFGSCentralStatus = iota + 1
-	// BrownBadlyScaledBFGSCentralStepTiny: the last step was at most the step limit relative to ‖x‖∞ + 1: converged.
+	// BrownBadlyScaledBFGSCentralStepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f while f was flat to the accuracy of the gradient (always so with finite differences): converged.
 	BrownBadlyScaledBFGSCentralStepTiny
 	// BrownBadlyScaledBFGSCentralOutOfIterations: the iteration limit came first.
 	BrownBadlyScaledBFGSCentralOutOfIterations
 	// BrownBadlyScaledBFGSCentralOutOfEvaluations: the next objective call would have exceeded the evaluation cap.
 	BrownBadlyScaledBFGSCentralOutOfEvaluations
-	// BrownBadlyScaledBFGSCentralNoAcceptableStep: no trial of the line search met the step rule within its trials.
+	// BrownBadlyScaledBFGSCentralNoAcceptableStep: no trial of the line search met the step rule at a finite point within its trials.
 	BrownBadlyScaledBFGSCentralNoAcceptableStep
 	// BrownBadlyScaledBFGSCentralNonFiniteStart: x0 or the objective at x0 is NaN or ±Inf.
 	BrownBadlyScaledBFGSCentralNonFiniteStart
 	// BrownBadlyScaledBFGSCentralNonFiniteGradient: a gradient component became NaN or ±Inf.
 	BrownBadlyScaledBFGSCentralNonFiniteGradient
+	// BrownBadlyScaledBFGSCentralNoDecrease: no step longer than the step limit decreased f, and f rose about as fast as the analytic gradient said it would fall: the gradient is probably wrong (see the generated gradient test).
+	BrownBadlyScaledBFGSCentralNoDecrease
 )
 
 // String describes the status in a few words.
@@ -41,6 +43,8 @@ func (s BrownBadlyScaledBFGSCentralStatus) String() string {
 		return "non-finite start"
 	case BrownBadlyScaledBFGSCentralNonFiniteGradient:
 		return "non-finite gradient"
+	case BrownBadlyScaledBFGSCentralNoDecrease:
+		return "no decrease"
 	default:
 		return "unknown status"
 	}
@@ -63,7 +67,7 @@ type BrownBadlyScaledBFGSCentralResult struct {
 // BrownBadlyScaledBFGSCentralLimits are the stop limits of one run. Pass them to BrownBadlyScaledBFGSCentralWithLimits to change them at run time; BrownBadlyScaledBFGSCentralDefaultLimits returns the spec's.
 type BrownBadlyScaledBFGSCentralLimits struct {
 	Gradient    float64 // stop when the largest |∂f/∂xᵢ| is at most this
-	Step        float64 // stop when the largest |Δxᵢ| is at most this·(‖x‖∞ + 1)
+	Step        float64 // stop when every |Δxᵢ| is at most this·(|xᵢ| + 1)
 	Iterations  int     // most accepted steps
 	Evaluations int     // hard cap on objective calls, finite differences included; never exceeded
 }
@@ -84,7 +88,7 @@ func BrownBadlyScaledBFGSCentralDefaultLimits() BrownBadlyScaledBFGSCentralLimit
 // Step rule wolfe: bracket and zoom until sufficient decrease and the curvature condition hold.
 // Derivative central: central differences: 2·dim objective calls per gradient, error O(u^(2/3)).
 // Constants: initial 1.0, c1 0.0001, c2 0.9, at most 40 trials per line search.
-// Default stop: largest gradient component ≤ 1e-08, step ≤ 1e-14·(‖x‖∞ + 1), 5000 iterations, 200000 objective calls.
+// Default stop: largest gradient component ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
 //
 // Worst case: 200000 objective calls, 4 of them per gradient (the evaluation cap; the iteration limit alone would allow 1000005). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
@@ -122,9 +126,11 @@ const (
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
 //  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged);
+//     steps shorter than the step limit are left to try (converged when
+//     f was flat along d or the gradient is a difference, else no
+//     decrease);
 //  5. move, refresh the gradient, let the direction learn from the step;
-//  6. stop when the step is at most lim.Step·(‖x‖∞ + 1).
+//  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
 //
 // Before every objective call it checks that lim.Evaluations leaves room
 // for it, so the cap is never exceeded. A NaN or ±Inf at the start or in a
@@ -162,7 +168,7 @@ func brownBadlyScaledBFGSCentralMinimize(x0 [2]float64, lim BrownBadlyScaledBFGS
 			return out
 		}
 		if out.iterations > 0 {
-			if brownBadlyScaledBFGSCentralMaxAbs(&s) <= lim.Step*(brownBadlyScaledBFGSCentralMaxAbs(&x)+1) {
+			if brownBadlyScaledBFGSCentralStepWithin(&s, &x, lim.Step) {
 				out.status = BrownBadlyScaledBFGSCentralStepTiny
 				return out
 			}
@@ -174,7 +180,7 @@ func brownBadlyScaledBFGSCentralMinimize(x0 [2]float64, lim BrownBadlyScaledBFGS
 		}
 		dir.compute(&g, &d)
 		now := brownBadlyScaledBFGSCentralDot(&g, &d)
-		if !(now < 0) {
+		if !(now < 0) || !brownBadlyScaledBFGSCentralFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
 			dir.compute(&g, &d)
 			now = brownBadlyScaledBFGSCentralDot(&g, &d)
@@ -183,7 +189,7 @@ func brownBadlyScaledBFGSCentralMinimize(x0 [2]float64, lim BrownBadlyScaledBFGS
 		if out.iterations > 0 {
 			first = dir.firstTrial(t, slope, now)
 		}
-		tiny := lim.Step * (brownBadlyScaledBFGSCentralMaxAbs(&x) + 1) / brownBadlyScaledBFGSCentralMaxAbs(&d) // steps t ≤ tiny pass the step test
+		tiny := brownBadlyScaledBFGSCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
 		found := brownBadlyScaledBFGSCentralLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt)
 		out.evaluations += found.calls
 		switch found.end {
@@ -193,13 +199,27 @@ func brownBadlyScaledBFGSCentralMinimize(x0 [2]float64, lim BrownBadlyScaledBFGS
 			out.status = BrownBadlyScaledBFGSCentralNoAcceptableStep
 			return out
 		case brownBadlyScaledBFGSCentralSearchTiny:
-			out.status = BrownBadlyScaledBFGSCentralStepTiny
+			// Converged to the step limit when f was flat along d to the
+			// accuracy available (see brownBadlyScaledBFGSCentralFlatTrial), and always with finite
+			// differences: their error, not the true slope, then steers d,
+			// so x is stationary to the accuracy of the differences. With
+			// an analytic gradient that f contradicts, it is not.
+			out.status = BrownBadlyScaledBFGSCentralNoDecrease
+			if found.flat || brownBadlyScaledBFGSCentralDerivativeCost > 0 {
+				out.status = BrownBadlyScaledBFGSCentralStepTiny
+			}
+			return out
+		}
+		if !brownBadlyScaledBFGSCentralFiniteVec(&xt) {
+			out.status = BrownBadlyScaledBFGSCentralNoAcceptableStep // the accepted trial overflowed x
 			return out
 		}
 		if !found.gradient {
 			if out.evaluations+brownBadlyScaledBFGSCentralDerivativeCost > lim.Evaluations {
-				out.x, out.f = xt, found.value // keep the better point even without its gradient
-				out.iterations++
+				if found.value < fx { // keep a better point even without its gradient
+					out.x, out.f = xt, found.value
+					out.iterations++
+				}
 				return out
 			}
 			brownBadlyScaledBFGSCentralDerivative(&xt, found.value, &gt)
@@ -254,7 +274,7 @@ func brownBadlyScaledBFGSCentralDerivative(x *[2]float64, fx float64, g *[2]floa
 	probe := *x
 	for i := range probe {
 		xi := probe[i]
-		h := brownBadlyScaledBFGSCentralCentralScale * max(1, brownBadlyScaledBFGSCentralAbs(xi)) // N&W §8.1: h = ∛u·max(1,|x_i|)
+		h := brownBadlyScaledBFGSCentralCentralScale * brownBadlyScaledBFGSCentralLarger(1, brownBadlyScaledBFGSCentralAbs(xi)) // N&W §8.1: h = ∛u·max(1,|x_i|)
 		up := xi + h
 		down := xi - h
 		probe[i] = up
@@ -264,6 +284,16 @@ func brownBadlyScaledBFGSCentralDerivative(x *[2]float64, fx float64, g *[2]floa
 		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
 		probe[i] = xi
 	}
+}
+
+// brownBadlyScaledBFGSCentralLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func brownBadlyScaledBFGSCentralLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
 }
 
 // brownBadlyScaledBFGSCentralAbs returns |v|.
@@ -354,13 +384,14 @@ func brownBadlyScaledBFGSCentralDot(a, b *[2]float64) float64 {
 
 // brownBadlyScaledBFGSCentralCurvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
 // update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
-// as (sᵀy)² > u·(sᵀs)(yᵀy) with u the unit roundoff, so that the updated
+// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
+// that float32 does not overflow, with u the unit roundoff, so that the updated
 // matrix stays positive definite and well conditioned (Nocedal & Wright
 // 2006, §6.1, condition 6.7; the relative threshold √u·‖s‖‖y‖ is from
 // Dennis & Schnabel 1983, Algorithm A9.4.1, recalled from memory).
 func brownBadlyScaledBFGSCentralCurvatureSafe(s, y *[2]float64) bool {
 	sy := brownBadlyScaledBFGSCentralDot(s, y)
-	return sy > 0 && sy*sy > brownBadlyScaledBFGSCentralUnitRoundoff*brownBadlyScaledBFGSCentralDot(s, s)*brownBadlyScaledBFGSCentralDot(y, y)
+	return sy > 0 && (sy/brownBadlyScaledBFGSCentralDot(s, s))*(sy/brownBadlyScaledBFGSCentralDot(y, y)) > brownBadlyScaledBFGSCentralUnitRoundoff
 }
 
 // brownBadlyScaledBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
@@ -372,6 +403,32 @@ func brownBadlyScaledBFGSCentralMaxAbs(x *[2]float64) float64 {
 		}
 	}
 	return m
+}
+
+// brownBadlyScaledBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func brownBadlyScaledBFGSCentralStepWithin(s, x *[2]float64, tol float64) bool {
+	for i := range s {
+		if !(brownBadlyScaledBFGSCentralAbs(s[i]) <= tol*(brownBadlyScaledBFGSCentralAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
+}
+
+// brownBadlyScaledBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
+// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+func brownBadlyScaledBFGSCentralTinyStep(x, d *[2]float64, tol float64) float64 {
+	tiny := float64(-1)
+	for i := range x {
+		if d[i] != 0 {
+			if t := tol * (brownBadlyScaledBFGSCentralAbs(x[i]) + 1) / brownBadlyScaledBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+	}
+	return tiny
 }
 
 // brownBadlyScaledBFGSCentralLineSearch finds a step meeting the Wolfe conditions
@@ -401,22 +458,18 @@ func brownBadlyScaledBFGSCentralLineSearch(x *[2]float64, fx float64, d *[2]floa
 	var high brownBadlyScaledBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                           // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	flat := false // whether a trial failing sufficient decrease found f flat
 	t := first
 	calls := 0
 	for trial := 0; trial < brownBadlyScaledBFGSCentralStepTrials; trial++ {
 		if bracketed && brownBadlyScaledBFGSCentralAbs(high.step-low.step) <= tiny {
 			// The bracket is below the step limit: take low when it
-			// decreased f; else x is converged to the step limit, unless
-			// f was not finite there.
+			// decreased f; else no step decreased f, unless f was not
+			// finite there.
 			if low.step == 0 {
-				return brownBadlyScaledBFGSCentralLineResult{calls: calls, end: brownBadlyScaledBFGSCentralTinyOrExhausted(brownBadlyScaledBFGSCentralFinite(high.value))}
+				return brownBadlyScaledBFGSCentralLineResult{calls: calls, flat: flat, end: brownBadlyScaledBFGSCentralTinyOrExhausted(brownBadlyScaledBFGSCentralFinite(high.value))}
 			}
-			brownBadlyScaledBFGSCentralMoveTo(xt, x, low.step, d)
-			*gt = lowGradient
-			return brownBadlyScaledBFGSCentralLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: brownBadlyScaledBFGSCentralSearchAccepted}
-		}
-		if !bracketed && t <= tiny {
-			return brownBadlyScaledBFGSCentralLineResult{calls: calls, end: brownBadlyScaledBFGSCentralSearchTiny}
+			return brownBadlyScaledBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
 		}
 		if calls >= budget {
 			return brownBadlyScaledBFGSCentralLineResult{calls: calls, end: brownBadlyScaledBFGSCentralSearchOutOfBudget}
@@ -427,6 +480,7 @@ func brownBadlyScaledBFGSCentralLineSearch(x *[2]float64, fx float64, d *[2]floa
 		previous := low
 		if !brownBadlyScaledBFGSCentralFinite(current.value) || current.value > fx+brownBadlyScaledBFGSCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
+			flat = flat || brownBadlyScaledBFGSCentralFinite(current.value) && brownBadlyScaledBFGSCentralFlatTrial(fx, current.value, t, slope)
 		} else {
 			if calls+brownBadlyScaledBFGSCentralDerivativeCost > budget {
 				return brownBadlyScaledBFGSCentralLineResult{calls: calls, end: brownBadlyScaledBFGSCentralSearchOutOfBudget}
@@ -453,6 +507,9 @@ func brownBadlyScaledBFGSCentralLineSearch(x *[2]float64, fx float64, d *[2]floa
 			t = brownBadlyScaledBFGSCentralExpandTrial(&previous, &current)
 		}
 	}
+	if low.step > 0 {
+		return brownBadlyScaledBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+	}
 	return brownBadlyScaledBFGSCentralLineResult{calls: calls, end: brownBadlyScaledBFGSCentralSearchExhausted}
 }
 
@@ -462,6 +519,7 @@ type brownBadlyScaledBFGSCentralLineResult struct {
 	value    float64                              // f(x + t·d)
 	calls    int                                  // objective calls spent, finite differences included
 	gradient bool                                 // whether gt holds ∇f(x + t·d) already
+	flat     bool                                 // whether a failed trial found f flat along d (see brownBadlyScaledBFGSCentralFlatTrial)
 	end      brownBadlyScaledBFGSCentralSearchEnd // how the search ended
 }
 
@@ -475,10 +533,10 @@ type brownBadlyScaledBFGSCentralLinePoint struct {
 	hasSlope           bool
 }
 
-// brownBadlyScaledBFGSCentralTinyOrExhausted ends a search that has run below the step limit: x is
-// converged to the step limit when the last failure was a finite increase
-// of f, but a non-finite value says nothing about f near x, so the search
-// has simply failed.
+// brownBadlyScaledBFGSCentralTinyOrExhausted ends a search that has run below the step limit: no
+// decrease was found when the last failure was a finite value, but a
+// non-finite value says nothing about f near x, so the search has simply
+// failed.
 func brownBadlyScaledBFGSCentralTinyOrExhausted(lastFinite bool) brownBadlyScaledBFGSCentralSearchEnd {
 	if lastFinite {
 		return brownBadlyScaledBFGSCentralSearchTiny
@@ -490,14 +548,46 @@ const (
 	brownBadlyScaledBFGSCentralSearchAccepted    brownBadlyScaledBFGSCentralSearchEnd = iota // a step met the rule
 	brownBadlyScaledBFGSCentralSearchExhausted                                               // brownBadlyScaledBFGSCentralStepTrials trials met none
 	brownBadlyScaledBFGSCentralSearchOutOfBudget                                             // the evaluation cap came first
-	brownBadlyScaledBFGSCentralSearchTiny                                                    // every step longer than tiny failed: x is converged to the step limit
+	brownBadlyScaledBFGSCentralSearchTiny                                                    // every step longer than tiny failed to decrease f
 )
+
+// brownBadlyScaledBFGSCentralAcceptLow ends a Wolfe search with its best trial, which met sufficient
+// decrease though not the curvature condition, when the bracket collapsed
+// or the trials ran out. Its gradient was kept in lowGradient. (When the
+// budget runs out the search ends without a step instead, so that a capped
+// run follows the uncapped run's path up to the cap.)
+func brownBadlyScaledBFGSCentralAcceptLow(x, d *[2]float64, low *brownBadlyScaledBFGSCentralLinePoint, lowGradient *[2]float64, calls int, xt, gt *[2]float64) brownBadlyScaledBFGSCentralLineResult {
+	brownBadlyScaledBFGSCentralMoveTo(xt, x, low.step, d)
+	*gt = *lowGradient
+	return brownBadlyScaledBFGSCentralLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: brownBadlyScaledBFGSCentralSearchAccepted}
+}
 
 // brownBadlyScaledBFGSCentralMoveTo sets out = x + t·d.
 func brownBadlyScaledBFGSCentralMoveTo(out, x *[2]float64, t float64, d *[2]float64) {
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
+}
+
+// brownBadlyScaledBFGSCentralFlatTrial reports whether a failed trial t found f flat along d, to
+// the accuracy the gradient and f allow, so that no decrease can be
+// expected from any step:
+//
+//   - the change f(x + t·d) − f(x) = ft − fx is at most half the
+//     first-order prediction t·∇fᵀd in size: near a minimizer whose
+//     gradient is known only roughly (differences), the true slope along
+//     d is below that accuracy. A wrong gradient makes f rise about as
+//     fast as it predicts a fall, and never passes. This is the ratio of
+//     actual to predicted reduction of trust-region methods (Nocedal &
+//     Wright 2006, eq. 4.4);
+//   - or the prediction itself, |t·∇fᵀd|, is below the rounding unit of
+//     f, u·|f(x)|: no change that small can show in floating point, so x
+//     is a minimizer to working precision (Dennis & Schnabel 1983, §7.2,
+//     relate the gradient test to the precision of f; recalled from
+//     memory).
+func brownBadlyScaledBFGSCentralFlatTrial(fx, ft, t, slope float64) bool {
+	predicted := brownBadlyScaledBFGSCentralAbs(t * slope)
+	return brownBadlyScaledBFGSCentralAbs(ft-fx) <= 0.5*predicted || predicted <= brownBadlyScaledBFGSCentralUnitRoundoff*brownBadlyScaledBFGSCentralAbs(fx)
 }
 
 // brownBadlyScaledBFGSCentralCurvatureMet is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)
@@ -555,7 +645,16 @@ func brownBadlyScaledBFGSCentralSquareRoot(v float64) float64 {
 // brownBadlyScaledBFGSCentralClampBetween returns v limited to the interval with ends a and b, in
 // either order.
 func brownBadlyScaledBFGSCentralClampBetween(v, a, b float64) float64 {
-	return max(min(a, b), min(max(a, b), v))
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
 }
 
 // brownBadlyScaledBFGSCentralExpandTrial picks a larger trial after current met sufficient decrease

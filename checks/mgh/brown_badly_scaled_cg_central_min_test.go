@@ -28,10 +28,13 @@ func TestBrownBadlyScaledCGCentralAllocatesNothing(t *testing.T) {
 	}
 }
 
-// TestBrownBadlyScaledCGCentralRespectsEvaluationCap caps the run below what it needs and checks that the cap is never exceeded and that the run says why it stopped.
+// TestBrownBadlyScaledCGCentralRespectsEvaluationCap caps the run below what it needs (0–63, powers of two, and one short) and checks that the cap is never exceeded and that the run says why it stopped.
 func TestBrownBadlyScaledCGCentralRespectsEvaluationCap(t *testing.T) {
 	needed := BrownBadlyScaledCGCentral(brownBadlyScaledCGCentralTestStart()).Evaluations
-	for cap := 0; cap < needed; cap += 1 + cap/16 {
+	for cap := 0; cap < needed; cap++ {
+		if cap >= 64 && cap&(cap-1) != 0 && cap != needed-1 {
+			continue
+		}
 		limits := BrownBadlyScaledCGCentralDefaultLimits()
 		limits.Evaluations = cap
 		r := BrownBadlyScaledCGCentralWithLimits(brownBadlyScaledCGCentralTestStart(), limits)
@@ -45,7 +48,7 @@ func TestBrownBadlyScaledCGCentralRespectsEvaluationCap(t *testing.T) {
 func BenchmarkBrownBadlyScaledCGCentral(b *testing.B) {
 	var r BrownBadlyScaledCGCentralResult
 	b.ReportAllocs()
-	for b.Loop() {
+	for i := 0; i < b.N; i++ {
 		r = BrownBadlyScaledCGCentral(brownBadlyScaledCGCentralTestStart())
 	}
 	b.ReportMetric(float64(r.Evaluations), "evaluations/op")

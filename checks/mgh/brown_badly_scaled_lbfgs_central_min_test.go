@@ -28,10 +28,13 @@ func TestBrownBadlyScaledLBFGSCentralAllocatesNothing(t *testing.T) {
 	}
 }
 
-// TestBrownBadlyScaledLBFGSCentralRespectsEvaluationCap caps the run below what it needs and checks that the cap is never exceeded and that the run says why it stopped.
+// TestBrownBadlyScaledLBFGSCentralRespectsEvaluationCap caps the run below what it needs (0–63, powers of two, and one short) and checks that the cap is never exceeded and that the run says why it stopped.
 func TestBrownBadlyScaledLBFGSCentralRespectsEvaluationCap(t *testing.T) {
 	needed := BrownBadlyScaledLBFGSCentral(brownBadlyScaledLBFGSCentralTestStart()).Evaluations
-	for cap := 0; cap < needed; cap += 1 + cap/16 {
+	for cap := 0; cap < needed; cap++ {
+		if cap >= 64 && cap&(cap-1) != 0 && cap != needed-1 {
+			continue
+		}
 		limits := BrownBadlyScaledLBFGSCentralDefaultLimits()
 		limits.Evaluations = cap
 		r := BrownBadlyScaledLBFGSCentralWithLimits(brownBadlyScaledLBFGSCentralTestStart(), limits)
@@ -45,7 +48,7 @@ func TestBrownBadlyScaledLBFGSCentralRespectsEvaluationCap(t *testing.T) {
 func BenchmarkBrownBadlyScaledLBFGSCentral(b *testing.B) {
 	var r BrownBadlyScaledLBFGSCentralResult
 	b.ReportAllocs()
-	for b.Loop() {
+	for i := 0; i < b.N; i++ {
 		r = BrownBadlyScaledLBFGSCentral(brownBadlyScaledLBFGSCentralTestStart())
 	}
 	b.ReportMetric(float64(r.Evaluations), "evaluations/op")

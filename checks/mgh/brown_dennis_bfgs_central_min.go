@@ -10,18 +10,20 @@ type BrownDennisBFGSCentralStatus uint8
 const (
 	// BrownDennisBFGSCentralGradientSmall: the largest gradient component fell to the gradient limit: converged.
 	BrownDennisBFGSCentralGradientSmall BrownDennisBFGSCentralStatus = iota + 1
-	// BrownDennisBFGSCentralStepTiny: the last step was at most the step limit relative to ‖x‖∞ + 1: converged.
+	// BrownDennisBFGSCentralStepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f while f was flat to the accuracy of the gradient (always so with finite differences): converged.
 	BrownDennisBFGSCentralStepTiny
 	// BrownDennisBFGSCentralOutOfIterations: the iteration limit came first.
 	BrownDennisBFGSCentralOutOfIterations
 	// BrownDennisBFGSCentralOutOfEvaluations: the next objective call would have exceeded the evaluation cap.
 	BrownDennisBFGSCentralOutOfEvaluations
-	// BrownDennisBFGSCentralNoAcceptableStep: no trial of the line search met the step rule within its trials.
+	// BrownDennisBFGSCentralNoAcceptableStep: no trial of the line search met the step rule at a finite point within its trials.
 	BrownDennisBFGSCentralNoAcceptableStep
 	// BrownDennisBFGSCentralNonFiniteStart: x0 or the objective at x0 is NaN or ±Inf.
 	BrownDennisBFGSCentralNonFiniteStart
 	// BrownDennisBFGSCentralNonFiniteGradient: a gradient component became NaN or ±Inf.
 	BrownDennisBFGSCentralNonFiniteGradient
+	// BrownDennisBFGSCentralNoDecrease: no step longer than the step limit decreased f, and f rose about as fast as the analytic gradient said it would fall: the gradient is probably wrong (see the generated gradient test).
+	BrownDennisBFGSCentralNoDecrease
 )
 
 // String describes the status in a few words.
@@ -41,6 +43,8 @@ func (s BrownDennisBFGSCentralStatus) String() string {
 		return "non-finite start"
 	case BrownDennisBFGSCentralNonFiniteGradient:
 		return "non-finite gradient"
+	case BrownDennisBFGSCentralNoDecrease:
+		return "no decrease"
 	default:
 		return "unknown status"
 	}
@@ -63,7 +67,7 @@ type BrownDennisBFGSCentralResult struct {
 // BrownDennisBFGSCentralLimits are the stop limits of one run. Pass them to BrownDennisBFGSCentralWithLimits to change them at run time; BrownDennisBFGSCentralDefaultLimits returns the spec's.
 type BrownDennisBFGSCentralLimits struct {
 	Gradient    float64 // stop when the largest |∂f/∂xᵢ| is at most this
-	Step        float64 // stop when the largest |Δxᵢ| is at most this·(‖x‖∞ + 1)
+	Step        float64 // stop when every |Δxᵢ| is at most this·(|xᵢ| + 1)
 	Iterations  int     // most accepted steps
 	Evaluations int     // hard cap on objective calls, finite differences included; never exceeded
 }
@@ -84,7 +88,7 @@ func BrownDennisBFGSCentralDefaultLimits() BrownDennisBFGSCentralLimits {
 // Step rule wolfe: bracket and zoom until sufficient decrease and the curvature condition hold.
 // Derivative central: central differences: 2·dim objective calls per gradient, error O(u^(2/3)).
 // Constants: initial 1.0, c1 0.0001, c2 0.9, at most 40 trials per line search.
-// Default stop: largest gradient component ≤ 1e-08, step ≤ 1e-14·(‖x‖∞ + 1), 5000 iterations, 200000 objective calls.
+// Default stop: largest gradient component ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
 //
 // Worst case: 200000 objective calls, 8 of them per gradient (the evaluation cap; the iteration limit alone would allow 1800009). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
@@ -122,9 +126,11 @@ const (
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
 //  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged);
+//     steps shorter than the step limit are left to try (converged when
+//     f was flat along d or the gradient is a difference, else no
+//     decrease);
 //  5. move, refresh the gradient, let the direction learn from the step;
-//  6. stop when the step is at most lim.Step·(‖x‖∞ + 1).
+//  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
 //
 // Before every objective call it checks that lim.Evaluations leaves room
 // for it, so the cap is never exceeded. A NaN or ±Inf at the start or in a
@@ -162,7 +168,7 @@ func brownDennisBFGSCentralMinimize(x0 [4]float64, lim BrownDennisBFGSCentralLim
 			return out
 		}
 		if out.iterations > 0 {
-			if brownDennisBFGSCentralMaxAbs(&s) <= lim.Step*(brownDennisBFGSCentralMaxAbs(&x)+1) {
+			if brownDennisBFGSCentralStepWithin(&s, &x, lim.Step) {
 				out.status = BrownDennisBFGSCentralStepTiny
 				return out
 			}
@@ -174,7 +180,7 @@ func brownDennisBFGSCentralMinimize(x0 [4]float64, lim BrownDennisBFGSCentralLim
 		}
 		dir.compute(&g, &d)
 		now := brownDennisBFGSCentralDot(&g, &d)
-		if !(now < 0) {
+		if !(now < 0) || !brownDennisBFGSCentralFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
 			dir.compute(&g, &d)
 			now = brownDennisBFGSCentralDot(&g, &d)
@@ -183,7 +189,7 @@ func brownDennisBFGSCentralMinimize(x0 [4]float64, lim BrownDennisBFGSCentralLim
 		if out.iterations > 0 {
 			first = dir.firstTrial(t, slope, now)
 		}
-		tiny := lim.Step * (brownDennisBFGSCentralMaxAbs(&x) + 1) / brownDennisBFGSCentralMaxAbs(&d) // steps t ≤ tiny pass the step test
+		tiny := brownDennisBFGSCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
 		found := brownDennisBFGSCentralLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt)
 		out.evaluations += found.calls
 		switch found.end {
@@ -193,13 +199,27 @@ func brownDennisBFGSCentralMinimize(x0 [4]float64, lim BrownDennisBFGSCentralLim
 			out.status = BrownDennisBFGSCentralNoAcceptableStep
 			return out
 		case brownDennisBFGSCentralSearchTiny:
-			out.status = BrownDennisBFGSCentralStepTiny
+			// Converged to the step limit when f was flat along d to the
+			// accuracy available (see brownDennisBFGSCentralFlatTrial), and always with finite
+			// differences: their error, not the true slope, then steers d,
+			// so x is stationary to the accuracy of the differences. With
+			// an analytic gradient that f contradicts, it is not.
+			out.status = BrownDennisBFGSCentralNoDecrease
+			if found.flat || brownDennisBFGSCentralDerivativeCost > 0 {
+				out.status = BrownDennisBFGSCentralStepTiny
+			}
+			return out
+		}
+		if !brownDennisBFGSCentralFiniteVec(&xt) {
+			out.status = BrownDennisBFGSCentralNoAcceptableStep // the accepted trial overflowed x
 			return out
 		}
 		if !found.gradient {
 			if out.evaluations+brownDennisBFGSCentralDerivativeCost > lim.Evaluations {
-				out.x, out.f = xt, found.value // keep the better point even without its gradient
-				out.iterations++
+				if found.value < fx { // keep a better point even without its gradient
+					out.x, out.f = xt, found.value
+					out.iterations++
+				}
 				return out
 			}
 			brownDennisBFGSCentralDerivative(&xt, found.value, &gt)
@@ -254,7 +274,7 @@ func brownDennisBFGSCentralDerivative(x *[4]float64, fx float64, g *[4]float64) 
 	probe := *x
 	for i := range probe {
 		xi := probe[i]
-		h := brownDennisBFGSCentralCentralScale * max(1, brownDennisBFGSCentralAbs(xi)) // N&W §8.1: h = ∛u·max(1,|x_i|)
+		h := brownDennisBFGSCentralCentralScale * brownDennisBFGSCentralLarger(1, brownDennisBFGSCentralAbs(xi)) // N&W §8.1: h = ∛u·max(1,|x_i|)
 		up := xi + h
 		down := xi - h
 		probe[i] = up
@@ -264,6 +284,16 @@ func brownDennisBFGSCentralDerivative(x *[4]float64, fx float64, g *[4]float64) 
 		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
 		probe[i] = xi
 	}
+}
+
+// brownDennisBFGSCentralLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func brownDennisBFGSCentralLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
 }
 
 // brownDennisBFGSCentralAbs returns |v|.
@@ -354,13 +384,14 @@ func brownDennisBFGSCentralDot(a, b *[4]float64) float64 {
 
 // brownDennisBFGSCentralCurvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
 // update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
-// as (sᵀy)² > u·(sᵀs)(yᵀy) with u the unit roundoff, so that the updated
+// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
+// that float32 does not overflow, with u the unit roundoff, so that the updated
 // matrix stays positive definite and well conditioned (Nocedal & Wright
 // 2006, §6.1, condition 6.7; the relative threshold √u·‖s‖‖y‖ is from
 // Dennis & Schnabel 1983, Algorithm A9.4.1, recalled from memory).
 func brownDennisBFGSCentralCurvatureSafe(s, y *[4]float64) bool {
 	sy := brownDennisBFGSCentralDot(s, y)
-	return sy > 0 && sy*sy > brownDennisBFGSCentralUnitRoundoff*brownDennisBFGSCentralDot(s, s)*brownDennisBFGSCentralDot(y, y)
+	return sy > 0 && (sy/brownDennisBFGSCentralDot(s, s))*(sy/brownDennisBFGSCentralDot(y, y)) > brownDennisBFGSCentralUnitRoundoff
 }
 
 // brownDennisBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
@@ -372,6 +403,32 @@ func brownDennisBFGSCentralMaxAbs(x *[4]float64) float64 {
 		}
 	}
 	return m
+}
+
+// brownDennisBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func brownDennisBFGSCentralStepWithin(s, x *[4]float64, tol float64) bool {
+	for i := range s {
+		if !(brownDennisBFGSCentralAbs(s[i]) <= tol*(brownDennisBFGSCentralAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
+}
+
+// brownDennisBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
+// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+func brownDennisBFGSCentralTinyStep(x, d *[4]float64, tol float64) float64 {
+	tiny := float64(-1)
+	for i := range x {
+		if d[i] != 0 {
+			if t := tol * (brownDennisBFGSCentralAbs(x[i]) + 1) / brownDennisBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+	}
+	return tiny
 }
 
 // brownDennisBFGSCentralLineSearch finds a step meeting the Wolfe conditions
@@ -401,22 +458,18 @@ func brownDennisBFGSCentralLineSearch(x *[4]float64, fx float64, d *[4]float64, 
 	var high brownDennisBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                      // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	flat := false // whether a trial failing sufficient decrease found f flat
 	t := first
 	calls := 0
 	for trial := 0; trial < brownDennisBFGSCentralStepTrials; trial++ {
 		if bracketed && brownDennisBFGSCentralAbs(high.step-low.step) <= tiny {
 			// The bracket is below the step limit: take low when it
-			// decreased f; else x is converged to the step limit, unless
-			// f was not finite there.
+			// decreased f; else no step decreased f, unless f was not
+			// finite there.
 			if low.step == 0 {
-				return brownDennisBFGSCentralLineResult{calls: calls, end: brownDennisBFGSCentralTinyOrExhausted(brownDennisBFGSCentralFinite(high.value))}
+				return brownDennisBFGSCentralLineResult{calls: calls, flat: flat, end: brownDennisBFGSCentralTinyOrExhausted(brownDennisBFGSCentralFinite(high.value))}
 			}
-			brownDennisBFGSCentralMoveTo(xt, x, low.step, d)
-			*gt = lowGradient
-			return brownDennisBFGSCentralLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: brownDennisBFGSCentralSearchAccepted}
-		}
-		if !bracketed && t <= tiny {
-			return brownDennisBFGSCentralLineResult{calls: calls, end: brownDennisBFGSCentralSearchTiny}
+			return brownDennisBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
 		}
 		if calls >= budget {
 			return brownDennisBFGSCentralLineResult{calls: calls, end: brownDennisBFGSCentralSearchOutOfBudget}
@@ -427,6 +480,7 @@ func brownDennisBFGSCentralLineSearch(x *[4]float64, fx float64, d *[4]float64, 
 		previous := low
 		if !brownDennisBFGSCentralFinite(current.value) || current.value > fx+brownDennisBFGSCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
+			flat = flat || brownDennisBFGSCentralFinite(current.value) && brownDennisBFGSCentralFlatTrial(fx, current.value, t, slope)
 		} else {
 			if calls+brownDennisBFGSCentralDerivativeCost > budget {
 				return brownDennisBFGSCentralLineResult{calls: calls, end: brownDennisBFGSCentralSearchOutOfBudget}
@@ -453,6 +507,9 @@ func brownDennisBFGSCentralLineSearch(x *[4]float64, fx float64, d *[4]float64, 
 			t = brownDennisBFGSCentralExpandTrial(&previous, &current)
 		}
 	}
+	if low.step > 0 {
+		return brownDennisBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+	}
 	return brownDennisBFGSCentralLineResult{calls: calls, end: brownDennisBFGSCentralSearchExhausted}
 }
 
@@ -462,6 +519,7 @@ type brownDennisBFGSCentralLineResult struct {
 	value    float64                         // f(x + t·d)
 	calls    int                             // objective calls spent, finite differences included
 	gradient bool                            // whether gt holds ∇f(x + t·d) already
+	flat     bool                            // whether a failed trial found f flat along d (see brownDennisBFGSCentralFlatTrial)
 	end      brownDennisBFGSCentralSearchEnd // how the search ended
 }
 
@@ -475,10 +533,10 @@ type brownDennisBFGSCentralLinePoint struct {
 	hasSlope           bool
 }
 
-// brownDennisBFGSCentralTinyOrExhausted ends a search that has run below the step limit: x is
-// converged to the step limit when the last failure was a finite increase
-// of f, but a non-finite value says nothing about f near x, so the search
-// has simply failed.
+// brownDennisBFGSCentralTinyOrExhausted ends a search that has run below the step limit: no
+// decrease was found when the last failure was a finite value, but a
+// non-finite value says nothing about f near x, so the search has simply
+// failed.
 func brownDennisBFGSCentralTinyOrExhausted(lastFinite bool) brownDennisBFGSCentralSearchEnd {
 	if lastFinite {
 		return brownDennisBFGSCentralSearchTiny
@@ -490,14 +548,46 @@ const (
 	brownDennisBFGSCentralSearchAccepted    brownDennisBFGSCentralSearchEnd = iota // a step met the rule
 	brownDennisBFGSCentralSearchExhausted                                          // brownDennisBFGSCentralStepTrials trials met none
 	brownDennisBFGSCentralSearchOutOfBudget                                        // the evaluation cap came first
-	brownDennisBFGSCentralSearchTiny                                               // every step longer than tiny failed: x is converged to the step limit
+	brownDennisBFGSCentralSearchTiny                                               // every step longer than tiny failed to decrease f
 )
+
+// brownDennisBFGSCentralAcceptLow ends a Wolfe search with its best trial, which met sufficient
+// decrease though not the curvature condition, when the bracket collapsed
+// or the trials ran out. Its gradient was kept in lowGradient. (When the
+// budget runs out the search ends without a step instead, so that a capped
+// run follows the uncapped run's path up to the cap.)
+func brownDennisBFGSCentralAcceptLow(x, d *[4]float64, low *brownDennisBFGSCentralLinePoint, lowGradient *[4]float64, calls int, xt, gt *[4]float64) brownDennisBFGSCentralLineResult {
+	brownDennisBFGSCentralMoveTo(xt, x, low.step, d)
+	*gt = *lowGradient
+	return brownDennisBFGSCentralLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: brownDennisBFGSCentralSearchAccepted}
+}
 
 // brownDennisBFGSCentralMoveTo sets out = x + t·d.
 func brownDennisBFGSCentralMoveTo(out, x *[4]float64, t float64, d *[4]float64) {
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
+}
+
+// brownDennisBFGSCentralFlatTrial reports whether a failed trial t found f flat along d, to
+// the accuracy the gradient and f allow, so that no decrease can be
+// expected from any step:
+//
+//   - the change f(x + t·d) − f(x) = ft − fx is at most half the
+//     first-order prediction t·∇fᵀd in size: near a minimizer whose
+//     gradient is known only roughly (differences), the true slope along
+//     d is below that accuracy. A wrong gradient makes f rise about as
+//     fast as it predicts a fall, and never passes. This is the ratio of
+//     actual to predicted reduction of trust-region methods (Nocedal &
+//     Wright 2006, eq. 4.4);
+//   - or the prediction itself, |t·∇fᵀd|, is below the rounding unit of
+//     f, u·|f(x)|: no change that small can show in floating point, so x
+//     is a minimizer to working precision (Dennis & Schnabel 1983, §7.2,
+//     relate the gradient test to the precision of f; recalled from
+//     memory).
+func brownDennisBFGSCentralFlatTrial(fx, ft, t, slope float64) bool {
+	predicted := brownDennisBFGSCentralAbs(t * slope)
+	return brownDennisBFGSCentralAbs(ft-fx) <= 0.5*predicted || predicted <= brownDennisBFGSCentralUnitRoundoff*brownDennisBFGSCentralAbs(fx)
 }
 
 // brownDennisBFGSCentralCurvatureMet is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)
@@ -555,7 +645,16 @@ func brownDennisBFGSCentralSquareRoot(v float64) float64 {
 // brownDennisBFGSCentralClampBetween returns v limited to the interval with ends a and b, in
 // either order.
 func brownDennisBFGSCentralClampBetween(v, a, b float64) float64 {
-	return max(min(a, b), min(max(a, b), v))
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
 }
 
 // brownDennisBFGSCentralExpandTrial picks a larger trial after current met sufficient decrease

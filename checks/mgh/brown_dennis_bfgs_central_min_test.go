@@ -28,10 +28,13 @@ func TestBrownDennisBFGSCentralAllocatesNothing(t *testing.T) {
 	}
 }
 
-// TestBrownDennisBFGSCentralRespectsEvaluationCap caps the run below what it needs and checks that the cap is never exceeded and that the run says why it stopped.
+// TestBrownDennisBFGSCentralRespectsEvaluationCap caps the run below what it needs (0–63, powers of two, and one short) and checks that the cap is never exceeded and that the run says why it stopped.
 func TestBrownDennisBFGSCentralRespectsEvaluationCap(t *testing.T) {
 	needed := BrownDennisBFGSCentral(brownDennisBFGSCentralTestStart()).Evaluations
-	for cap := 0; cap < needed; cap += 1 + cap/16 {
+	for cap := 0; cap < needed; cap++ {
+		if cap >= 64 && cap&(cap-1) != 0 && cap != needed-1 {
+			continue
+		}
 		limits := BrownDennisBFGSCentralDefaultLimits()
 		limits.Evaluations = cap
 		r := BrownDennisBFGSCentralWithLimits(brownDennisBFGSCentralTestStart(), limits)
@@ -45,7 +48,7 @@ func TestBrownDennisBFGSCentralRespectsEvaluationCap(t *testing.T) {
 func BenchmarkBrownDennisBFGSCentral(b *testing.B) {
 	var r BrownDennisBFGSCentralResult
 	b.ReportAllocs()
-	for b.Loop() {
+	for i := 0; i < b.N; i++ {
 		r = BrownDennisBFGSCentral(brownDennisBFGSCentralTestStart())
 	}
 	b.ReportMetric(float64(r.Evaluations), "evaluations/op")

@@ -28,10 +28,13 @@ func TestBrownDennisCGCentralAllocatesNothing(t *testing.T) {
 	}
 }
 
-// TestBrownDennisCGCentralRespectsEvaluationCap caps the run below what it needs and checks that the cap is never exceeded and that the run says why it stopped.
+// TestBrownDennisCGCentralRespectsEvaluationCap caps the run below what it needs (0–63, powers of two, and one short) and checks that the cap is never exceeded and that the run says why it stopped.
 func TestBrownDennisCGCentralRespectsEvaluationCap(t *testing.T) {
 	needed := BrownDennisCGCentral(brownDennisCGCentralTestStart()).Evaluations
-	for cap := 0; cap < needed; cap += 1 + cap/16 {
+	for cap := 0; cap < needed; cap++ {
+		if cap >= 64 && cap&(cap-1) != 0 && cap != needed-1 {
+			continue
+		}
 		limits := BrownDennisCGCentralDefaultLimits()
 		limits.Evaluations = cap
 		r := BrownDennisCGCentralWithLimits(brownDennisCGCentralTestStart(), limits)
@@ -45,7 +48,7 @@ func TestBrownDennisCGCentralRespectsEvaluationCap(t *testing.T) {
 func BenchmarkBrownDennisCGCentral(b *testing.B) {
 	var r BrownDennisCGCentralResult
 	b.ReportAllocs()
-	for b.Loop() {
+	for i := 0; i < b.N; i++ {
 		r = BrownDennisCGCentral(brownDennisCGCentralTestStart())
 	}
 	b.ReportMetric(float64(r.Evaluations), "evaluations/op")

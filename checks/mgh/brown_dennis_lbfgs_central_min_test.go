@@ -28,10 +28,13 @@ func TestBrownDennisLBFGSCentralAllocatesNothing(t *testing.T) {
 	}
 }
 
-// TestBrownDennisLBFGSCentralRespectsEvaluationCap caps the run below what it needs and checks that the cap is never exceeded and that the run says why it stopped.
+// TestBrownDennisLBFGSCentralRespectsEvaluationCap caps the run below what it needs (0–63, powers of two, and one short) and checks that the cap is never exceeded and that the run says why it stopped.
 func TestBrownDennisLBFGSCentralRespectsEvaluationCap(t *testing.T) {
 	needed := BrownDennisLBFGSCentral(brownDennisLBFGSCentralTestStart()).Evaluations
-	for cap := 0; cap < needed; cap += 1 + cap/16 {
+	for cap := 0; cap < needed; cap++ {
+		if cap >= 64 && cap&(cap-1) != 0 && cap != needed-1 {
+			continue
+		}
 		limits := BrownDennisLBFGSCentralDefaultLimits()
 		limits.Evaluations = cap
 		r := BrownDennisLBFGSCentralWithLimits(brownDennisLBFGSCentralTestStart(), limits)
@@ -45,7 +48,7 @@ func TestBrownDennisLBFGSCentralRespectsEvaluationCap(t *testing.T) {
 func BenchmarkBrownDennisLBFGSCentral(b *testing.B) {
 	var r BrownDennisLBFGSCentralResult
 	b.ReportAllocs()
-	for b.Loop() {
+	for i := 0; i < b.N; i++ {
 		r = BrownDennisLBFGSCentral(brownDennisLBFGSCentralTestStart())
 	}
 	b.ReportMetric(float64(r.Evaluations), "evaluations/op")

@@ -28,10 +28,13 @@ func TestGulfRDBFGSCentralAllocatesNothing(t *testing.T) {
 	}
 }
 
-// TestGulfRDBFGSCentralRespectsEvaluationCap caps the run below what it needs and checks that the cap is never exceeded and that the run says why it stopped.
+// TestGulfRDBFGSCentralRespectsEvaluationCap caps the run below what it needs (0–63, powers of two, and one short) and checks that the cap is never exceeded and that the run says why it stopped.
 func TestGulfRDBFGSCentralRespectsEvaluationCap(t *testing.T) {
 	needed := GulfRDBFGSCentral(gulfRDBFGSCentralTestStart()).Evaluations
-	for cap := 0; cap < needed; cap += 1 + cap/16 {
+	for cap := 0; cap < needed; cap++ {
+		if cap >= 64 && cap&(cap-1) != 0 && cap != needed-1 {
+			continue
+		}
 		limits := GulfRDBFGSCentralDefaultLimits()
 		limits.Evaluations = cap
 		r := GulfRDBFGSCentralWithLimits(gulfRDBFGSCentralTestStart(), limits)
@@ -45,7 +48,7 @@ func TestGulfRDBFGSCentralRespectsEvaluationCap(t *testing.T) {
 func BenchmarkGulfRDBFGSCentral(b *testing.B) {
 	var r GulfRDBFGSCentralResult
 	b.ReportAllocs()
-	for b.Loop() {
+	for i := 0; i < b.N; i++ {
 		r = GulfRDBFGSCentral(gulfRDBFGSCentralTestStart())
 	}
 	b.ReportMetric(float64(r.Evaluations), "evaluations/op")

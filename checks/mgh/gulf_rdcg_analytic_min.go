@@ -10,18 +10,20 @@ type GulfRDCGAnalyticStatus uint8
 const (
 	// GulfRDCGAnalyticGradientSmall: the largest gradient component fell to the gradient limit: converged.
 	GulfRDCGAnalyticGradientSmall GulfRDCGAnalyticStatus = iota + 1
-	// GulfRDCGAnalyticStepTiny: the last step was at most the step limit relative to ‖x‖∞ + 1: converged.
+	// GulfRDCGAnalyticStepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f while f was flat to the accuracy of the gradient (always so with finite differences): converged.
 	GulfRDCGAnalyticStepTiny
 	// GulfRDCGAnalyticOutOfIterations: the iteration limit came first.
 	GulfRDCGAnalyticOutOfIterations
 	// GulfRDCGAnalyticOutOfEvaluations: the next objective call would have exceeded the evaluation cap.
 	GulfRDCGAnalyticOutOfEvaluations
-	// GulfRDCGAnalyticNoAcceptableStep: no trial of the line search met the step rule within its trials.
+	// GulfRDCGAnalyticNoAcceptableStep: no trial of the line search met the step rule at a finite point within its trials.
 	GulfRDCGAnalyticNoAcceptableStep
 	// GulfRDCGAnalyticNonFiniteStart: x0 or the objective at x0 is NaN or ±Inf.
 	GulfRDCGAnalyticNonFiniteStart
 	// GulfRDCGAnalyticNonFiniteGradient: a gradient component became NaN or ±Inf.
 	GulfRDCGAnalyticNonFiniteGradient
+	// GulfRDCGAnalyticNoDecrease: no step longer than the step limit decreased f, and f rose about as fast as the analytic gradient said it would fall: the gradient is probably wrong (see the generated gradient test).
+	GulfRDCGAnalyticNoDecrease
 )
 
 // String describes the status in a few words.
@@ -41,6 +43,8 @@ func (s GulfRDCGAnalyticStatus) String() string {
 		return "non-finite start"
 	case GulfRDCGAnalyticNonFiniteGradient:
 		return "non-finite gradient"
+	case GulfRDCGAnalyticNoDecrease:
+		return "no decrease"
 	default:
 		return "unknown status"
 	}
@@ -63,7 +67,7 @@ type GulfRDCGAnalyticResult struct {
 // GulfRDCGAnalyticLimits are the stop limits of one run. Pass them to GulfRDCGAnalyticWithLimits to change them at run time; GulfRDCGAnalyticDefaultLimits returns the spec's.
 type GulfRDCGAnalyticLimits struct {
 	Gradient    float64 // stop when the largest |∂f/∂xᵢ| is at most this
-	Step        float64 // stop when the largest |Δxᵢ| is at most this·(‖x‖∞ + 1)
+	Step        float64 // stop when every |Δxᵢ| is at most this·(|xᵢ| + 1)
 	Iterations  int     // most accepted steps
 	Evaluations int     // hard cap on objective calls, finite differences included; never exceeded
 }
@@ -84,7 +88,7 @@ func GulfRDCGAnalyticDefaultLimits() GulfRDCGAnalyticLimits {
 // Step rule strong-wolfe: bracket and zoom until sufficient decrease and the strong curvature condition hold.
 // Derivative analytic: the user's own gradient function (spec key `gradient`); costs no objective calls.
 // Constants: initial 1.0, c1 0.0001, c2 0.1, at most 40 trials per line search.
-// Default stop: largest gradient component ≤ 1e-08, step ≤ 1e-14·(‖x‖∞ + 1), 5000 iterations, 200000 objective calls.
+// Default stop: largest gradient component ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
 //
 // Worst case: 200000 objective calls (the evaluation cap; the iteration limit alone would allow 200001). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
@@ -106,11 +110,12 @@ func GulfRDCGAnalyticWithLimits(x0 [3]float64, limits GulfRDCGAnalyticLimits) Gu
 
 // Tunables of GulfRDCGAnalytic from mgh.toml; the kernels below read them.
 const (
-	gulfRDCGAnalyticStepInitial    = 1.0    // step.initial
-	gulfRDCGAnalyticStepDecrease   = 0.0001 // step.decrease (c1)
-	gulfRDCGAnalyticStepCurvature  = 0.1    // step.curvature (c2)
-	gulfRDCGAnalyticStepTrials     = 40     // step.trials
-	gulfRDCGAnalyticDerivativeCost = 0      // objective calls per gradient
+	gulfRDCGAnalyticStepInitial    = 1.0                    // step.initial
+	gulfRDCGAnalyticStepDecrease   = 0.0001                 // step.decrease (c1)
+	gulfRDCGAnalyticStepCurvature  = 0.1                    // step.curvature (c2)
+	gulfRDCGAnalyticStepTrials     = 40                     // step.trials
+	gulfRDCGAnalyticDerivativeCost = 0                      // objective calls per gradient
+	gulfRDCGAnalyticUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
 )
 
 // gulfRDCGAnalyticMinimize runs the descent loop from x0 within lim:
@@ -120,9 +125,11 @@ const (
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
 //  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged);
+//     steps shorter than the step limit are left to try (converged when
+//     f was flat along d or the gradient is a difference, else no
+//     decrease);
 //  5. move, refresh the gradient, let the direction learn from the step;
-//  6. stop when the step is at most lim.Step·(‖x‖∞ + 1).
+//  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
 //
 // Before every objective call it checks that lim.Evaluations leaves room
 // for it, so the cap is never exceeded. A NaN or ±Inf at the start or in a
@@ -160,7 +167,7 @@ func gulfRDCGAnalyticMinimize(x0 [3]float64, lim GulfRDCGAnalyticLimits) gulfRDC
 			return out
 		}
 		if out.iterations > 0 {
-			if gulfRDCGAnalyticMaxAbs(&s) <= lim.Step*(gulfRDCGAnalyticMaxAbs(&x)+1) {
+			if gulfRDCGAnalyticStepWithin(&s, &x, lim.Step) {
 				out.status = GulfRDCGAnalyticStepTiny
 				return out
 			}
@@ -172,7 +179,7 @@ func gulfRDCGAnalyticMinimize(x0 [3]float64, lim GulfRDCGAnalyticLimits) gulfRDC
 		}
 		dir.compute(&g, &d)
 		now := gulfRDCGAnalyticDot(&g, &d)
-		if !(now < 0) {
+		if !(now < 0) || !gulfRDCGAnalyticFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
 			dir.compute(&g, &d)
 			now = gulfRDCGAnalyticDot(&g, &d)
@@ -181,7 +188,7 @@ func gulfRDCGAnalyticMinimize(x0 [3]float64, lim GulfRDCGAnalyticLimits) gulfRDC
 		if out.iterations > 0 {
 			first = dir.firstTrial(t, slope, now)
 		}
-		tiny := lim.Step * (gulfRDCGAnalyticMaxAbs(&x) + 1) / gulfRDCGAnalyticMaxAbs(&d) // steps t ≤ tiny pass the step test
+		tiny := gulfRDCGAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
 		found := gulfRDCGAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt)
 		out.evaluations += found.calls
 		switch found.end {
@@ -191,13 +198,27 @@ func gulfRDCGAnalyticMinimize(x0 [3]float64, lim GulfRDCGAnalyticLimits) gulfRDC
 			out.status = GulfRDCGAnalyticNoAcceptableStep
 			return out
 		case gulfRDCGAnalyticSearchTiny:
-			out.status = GulfRDCGAnalyticStepTiny
+			// Converged to the step limit when f was flat along d to the
+			// accuracy available (see gulfRDCGAnalyticFlatTrial), and always with finite
+			// differences: their error, not the true slope, then steers d,
+			// so x is stationary to the accuracy of the differences. With
+			// an analytic gradient that f contradicts, it is not.
+			out.status = GulfRDCGAnalyticNoDecrease
+			if found.flat || gulfRDCGAnalyticDerivativeCost > 0 {
+				out.status = GulfRDCGAnalyticStepTiny
+			}
+			return out
+		}
+		if !gulfRDCGAnalyticFiniteVec(&xt) {
+			out.status = GulfRDCGAnalyticNoAcceptableStep // the accepted trial overflowed x
 			return out
 		}
 		if !found.gradient {
 			if out.evaluations+gulfRDCGAnalyticDerivativeCost > lim.Evaluations {
-				out.x, out.f = xt, found.value // keep the better point even without its gradient
-				out.iterations++
+				if found.value < fx { // keep a better point even without its gradient
+					out.x, out.f = xt, found.value
+					out.iterations++
+				}
 				return out
 			}
 			gulfRDCGAnalyticDerivative(&xt, found.value, &gt)
@@ -277,7 +298,7 @@ func (s *gulfRDCGAnalyticDirection) reset() {
 func (s *gulfRDCGAnalyticDirection) compute(g, d *[3]float64) {
 	var beta float64
 	if s.steps > 0 && s.steps < 3 && s.squared > 0 {
-		beta = max(gulfRDCGAnalyticDot(g, &s.change)/s.squared, 0) // N&W eq. 5.45 (PR+)
+		beta = gulfRDCGAnalyticLarger(gulfRDCGAnalyticDot(g, &s.change)/s.squared, 0) // N&W eq. 5.45 (PR+)
 	}
 	for i := range d {
 		d[i] = -g[i] + beta*s.previous[i] // N&W eq. 5.44
@@ -296,6 +317,16 @@ func (s *gulfRDCGAnalyticDirection) update(step, change *[3]float64) {
 
 func (s *gulfRDCGAnalyticDirection) firstTrial(t, slope, now float64) float64 {
 	return gulfRDCGAnalyticScaledTrial(t, slope, now)
+}
+
+// gulfRDCGAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func gulfRDCGAnalyticLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
 }
 
 // gulfRDCGAnalyticDot returns aᵀb.
@@ -338,6 +369,32 @@ func gulfRDCGAnalyticAbs(v float64) float64 {
 	return v
 }
 
+// gulfRDCGAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func gulfRDCGAnalyticStepWithin(s, x *[3]float64, tol float64) bool {
+	for i := range s {
+		if !(gulfRDCGAnalyticAbs(s[i]) <= tol*(gulfRDCGAnalyticAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
+}
+
+// gulfRDCGAnalyticTinyStep returns the longest t for which the step t·d from x passes the
+// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+func gulfRDCGAnalyticTinyStep(x, d *[3]float64, tol float64) float64 {
+	tiny := float64(-1)
+	for i := range x {
+		if d[i] != 0 {
+			if t := tol * (gulfRDCGAnalyticAbs(x[i]) + 1) / gulfRDCGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+	}
+	return tiny
+}
+
 // gulfRDCGAnalyticLineSearch finds a step meeting the Wolfe conditions
 //
 //	f(x + t·d) ≤ f(x) + c1·t·∇f(x)ᵀd                (sufficient decrease)
@@ -365,22 +422,18 @@ func gulfRDCGAnalyticLineSearch(x *[3]float64, fx float64, d *[3]float64, slope,
 	var high gulfRDCGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                                // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	flat := false // whether a trial failing sufficient decrease found f flat
 	t := first
 	calls := 0
 	for trial := 0; trial < gulfRDCGAnalyticStepTrials; trial++ {
 		if bracketed && gulfRDCGAnalyticAbs(high.step-low.step) <= tiny {
 			// The bracket is below the step limit: take low when it
-			// decreased f; else x is converged to the step limit, unless
-			// f was not finite there.
+			// decreased f; else no step decreased f, unless f was not
+			// finite there.
 			if low.step == 0 {
-				return gulfRDCGAnalyticLineResult{calls: calls, end: gulfRDCGAnalyticTinyOrExhausted(gulfRDCGAnalyticFinite(high.value))}
+				return gulfRDCGAnalyticLineResult{calls: calls, flat: flat, end: gulfRDCGAnalyticTinyOrExhausted(gulfRDCGAnalyticFinite(high.value))}
 			}
-			gulfRDCGAnalyticMoveTo(xt, x, low.step, d)
-			*gt = lowGradient
-			return gulfRDCGAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: gulfRDCGAnalyticSearchAccepted}
-		}
-		if !bracketed && t <= tiny {
-			return gulfRDCGAnalyticLineResult{calls: calls, end: gulfRDCGAnalyticSearchTiny}
+			return gulfRDCGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
 		}
 		if calls >= budget {
 			return gulfRDCGAnalyticLineResult{calls: calls, end: gulfRDCGAnalyticSearchOutOfBudget}
@@ -391,6 +444,7 @@ func gulfRDCGAnalyticLineSearch(x *[3]float64, fx float64, d *[3]float64, slope,
 		previous := low
 		if !gulfRDCGAnalyticFinite(current.value) || current.value > fx+gulfRDCGAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
+			flat = flat || gulfRDCGAnalyticFinite(current.value) && gulfRDCGAnalyticFlatTrial(fx, current.value, t, slope)
 		} else {
 			if calls+gulfRDCGAnalyticDerivativeCost > budget {
 				return gulfRDCGAnalyticLineResult{calls: calls, end: gulfRDCGAnalyticSearchOutOfBudget}
@@ -417,6 +471,9 @@ func gulfRDCGAnalyticLineSearch(x *[3]float64, fx float64, d *[3]float64, slope,
 			t = gulfRDCGAnalyticExpandTrial(&previous, &current)
 		}
 	}
+	if low.step > 0 {
+		return gulfRDCGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+	}
 	return gulfRDCGAnalyticLineResult{calls: calls, end: gulfRDCGAnalyticSearchExhausted}
 }
 
@@ -426,6 +483,7 @@ type gulfRDCGAnalyticLineResult struct {
 	value    float64                   // f(x + t·d)
 	calls    int                       // objective calls spent, finite differences included
 	gradient bool                      // whether gt holds ∇f(x + t·d) already
+	flat     bool                      // whether a failed trial found f flat along d (see gulfRDCGAnalyticFlatTrial)
 	end      gulfRDCGAnalyticSearchEnd // how the search ended
 }
 
@@ -439,10 +497,10 @@ type gulfRDCGAnalyticLinePoint struct {
 	hasSlope           bool
 }
 
-// gulfRDCGAnalyticTinyOrExhausted ends a search that has run below the step limit: x is
-// converged to the step limit when the last failure was a finite increase
-// of f, but a non-finite value says nothing about f near x, so the search
-// has simply failed.
+// gulfRDCGAnalyticTinyOrExhausted ends a search that has run below the step limit: no
+// decrease was found when the last failure was a finite value, but a
+// non-finite value says nothing about f near x, so the search has simply
+// failed.
 func gulfRDCGAnalyticTinyOrExhausted(lastFinite bool) gulfRDCGAnalyticSearchEnd {
 	if lastFinite {
 		return gulfRDCGAnalyticSearchTiny
@@ -454,14 +512,46 @@ const (
 	gulfRDCGAnalyticSearchAccepted    gulfRDCGAnalyticSearchEnd = iota // a step met the rule
 	gulfRDCGAnalyticSearchExhausted                                    // gulfRDCGAnalyticStepTrials trials met none
 	gulfRDCGAnalyticSearchOutOfBudget                                  // the evaluation cap came first
-	gulfRDCGAnalyticSearchTiny                                         // every step longer than tiny failed: x is converged to the step limit
+	gulfRDCGAnalyticSearchTiny                                         // every step longer than tiny failed to decrease f
 )
+
+// gulfRDCGAnalyticAcceptLow ends a Wolfe search with its best trial, which met sufficient
+// decrease though not the curvature condition, when the bracket collapsed
+// or the trials ran out. Its gradient was kept in lowGradient. (When the
+// budget runs out the search ends without a step instead, so that a capped
+// run follows the uncapped run's path up to the cap.)
+func gulfRDCGAnalyticAcceptLow(x, d *[3]float64, low *gulfRDCGAnalyticLinePoint, lowGradient *[3]float64, calls int, xt, gt *[3]float64) gulfRDCGAnalyticLineResult {
+	gulfRDCGAnalyticMoveTo(xt, x, low.step, d)
+	*gt = *lowGradient
+	return gulfRDCGAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: gulfRDCGAnalyticSearchAccepted}
+}
 
 // gulfRDCGAnalyticMoveTo sets out = x + t·d.
 func gulfRDCGAnalyticMoveTo(out, x *[3]float64, t float64, d *[3]float64) {
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
+}
+
+// gulfRDCGAnalyticFlatTrial reports whether a failed trial t found f flat along d, to
+// the accuracy the gradient and f allow, so that no decrease can be
+// expected from any step:
+//
+//   - the change f(x + t·d) − f(x) = ft − fx is at most half the
+//     first-order prediction t·∇fᵀd in size: near a minimizer whose
+//     gradient is known only roughly (differences), the true slope along
+//     d is below that accuracy. A wrong gradient makes f rise about as
+//     fast as it predicts a fall, and never passes. This is the ratio of
+//     actual to predicted reduction of trust-region methods (Nocedal &
+//     Wright 2006, eq. 4.4);
+//   - or the prediction itself, |t·∇fᵀd|, is below the rounding unit of
+//     f, u·|f(x)|: no change that small can show in floating point, so x
+//     is a minimizer to working precision (Dennis & Schnabel 1983, §7.2,
+//     relate the gradient test to the precision of f; recalled from
+//     memory).
+func gulfRDCGAnalyticFlatTrial(fx, ft, t, slope float64) bool {
+	predicted := gulfRDCGAnalyticAbs(t * slope)
+	return gulfRDCGAnalyticAbs(ft-fx) <= 0.5*predicted || predicted <= gulfRDCGAnalyticUnitRoundoff*gulfRDCGAnalyticAbs(fx)
 }
 
 // gulfRDCGAnalyticCurvatureMet is the strong Wolfe curvature condition
@@ -519,7 +609,16 @@ func gulfRDCGAnalyticSquareRoot(v float64) float64 {
 // gulfRDCGAnalyticClampBetween returns v limited to the interval with ends a and b, in
 // either order.
 func gulfRDCGAnalyticClampBetween(v, a, b float64) float64 {
-	return max(min(a, b), min(max(a, b), v))
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
 }
 
 // gulfRDCGAnalyticExpandTrial picks a larger trial after current met sufficient decrease

@@ -28,10 +28,13 @@ func TestGulfRDCGCentralAllocatesNothing(t *testing.T) {
 	}
 }
 
-// TestGulfRDCGCentralRespectsEvaluationCap caps the run below what it needs and checks that the cap is never exceeded and that the run says why it stopped.
+// TestGulfRDCGCentralRespectsEvaluationCap caps the run below what it needs (0–63, powers of two, and one short) and checks that the cap is never exceeded and that the run says why it stopped.
 func TestGulfRDCGCentralRespectsEvaluationCap(t *testing.T) {
 	needed := GulfRDCGCentral(gulfRDCGCentralTestStart()).Evaluations
-	for cap := 0; cap < needed; cap += 1 + cap/16 {
+	for cap := 0; cap < needed; cap++ {
+		if cap >= 64 && cap&(cap-1) != 0 && cap != needed-1 {
+			continue
+		}
 		limits := GulfRDCGCentralDefaultLimits()
 		limits.Evaluations = cap
 		r := GulfRDCGCentralWithLimits(gulfRDCGCentralTestStart(), limits)
@@ -45,7 +48,7 @@ func TestGulfRDCGCentralRespectsEvaluationCap(t *testing.T) {
 func BenchmarkGulfRDCGCentral(b *testing.B) {
 	var r GulfRDCGCentralResult
 	b.ReportAllocs()
-	for b.Loop() {
+	for i := 0; i < b.N; i++ {
 		r = GulfRDCGCentral(gulfRDCGCentralTestStart())
 	}
 	b.ReportMetric(float64(r.Evaluations), "evaluations/op")

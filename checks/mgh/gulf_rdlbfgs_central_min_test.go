@@ -28,10 +28,13 @@ func TestGulfRDLBFGSCentralAllocatesNothing(t *testing.T) {
 	}
 }
 
-// TestGulfRDLBFGSCentralRespectsEvaluationCap caps the run below what it needs and checks that the cap is never exceeded and that the run says why it stopped.
+// TestGulfRDLBFGSCentralRespectsEvaluationCap caps the run below what it needs (0–63, powers of two, and one short) and checks that the cap is never exceeded and that the run says why it stopped.
 func TestGulfRDLBFGSCentralRespectsEvaluationCap(t *testing.T) {
 	needed := GulfRDLBFGSCentral(gulfRDLBFGSCentralTestStart()).Evaluations
-	for cap := 0; cap < needed; cap += 1 + cap/16 {
+	for cap := 0; cap < needed; cap++ {
+		if cap >= 64 && cap&(cap-1) != 0 && cap != needed-1 {
+			continue
+		}
 		limits := GulfRDLBFGSCentralDefaultLimits()
 		limits.Evaluations = cap
 		r := GulfRDLBFGSCentralWithLimits(gulfRDLBFGSCentralTestStart(), limits)
@@ -45,7 +48,7 @@ func TestGulfRDLBFGSCentralRespectsEvaluationCap(t *testing.T) {
 func BenchmarkGulfRDLBFGSCentral(b *testing.B) {
 	var r GulfRDLBFGSCentralResult
 	b.ReportAllocs()
-	for b.Loop() {
+	for i := 0; i < b.N; i++ {
 		r = GulfRDLBFGSCentral(gulfRDLBFGSCentralTestStart())
 	}
 	b.ReportMetric(float64(r.Evaluations), "evaluations/op")

@@ -28,10 +28,13 @@ func TestHelicalValleyBFGSCentralAllocatesNothing(t *testing.T) {
 	}
 }
 
-// TestHelicalValleyBFGSCentralRespectsEvaluationCap caps the run below what it needs and checks that the cap is never exceeded and that the run says why it stopped.
+// TestHelicalValleyBFGSCentralRespectsEvaluationCap caps the run below what it needs (0–63, powers of two, and one short) and checks that the cap is never exceeded and that the run says why it stopped.
 func TestHelicalValleyBFGSCentralRespectsEvaluationCap(t *testing.T) {
 	needed := HelicalValleyBFGSCentral(helicalValleyBFGSCentralTestStart()).Evaluations
-	for cap := 0; cap < needed; cap += 1 + cap/16 {
+	for cap := 0; cap < needed; cap++ {
+		if cap >= 64 && cap&(cap-1) != 0 && cap != needed-1 {
+			continue
+		}
 		limits := HelicalValleyBFGSCentralDefaultLimits()
 		limits.Evaluations = cap
 		r := HelicalValleyBFGSCentralWithLimits(helicalValleyBFGSCentralTestStart(), limits)
@@ -45,7 +48,7 @@ func TestHelicalValleyBFGSCentralRespectsEvaluationCap(t *testing.T) {
 func BenchmarkHelicalValleyBFGSCentral(b *testing.B) {
 	var r HelicalValleyBFGSCentralResult
 	b.ReportAllocs()
-	for b.Loop() {
+	for i := 0; i < b.N; i++ {
 		r = HelicalValleyBFGSCentral(helicalValleyBFGSCentralTestStart())
 	}
 	b.ReportMetric(float64(r.Evaluations), "evaluations/op")

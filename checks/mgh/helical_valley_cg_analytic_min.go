@@ -10,18 +10,20 @@ type HelicalValleyCGAnalyticStatus uint8
 const (
 	// HelicalValleyCGAnalyticGradientSmall: the largest gradient component fell to the gradient limit: converged.
 	HelicalValleyCGAnalyticGradientSmall HelicalValleyCGAnalyticStatus = iota + 1
-	// HelicalValleyCGAnalyticStepTiny: the last step was at most the step limit relative to ‖x‖∞ + 1: converged.
+	// HelicalValleyCGAnalyticStepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f while f was flat to the accuracy of the gradient (always so with finite differences): converged.
 	HelicalValleyCGAnalyticStepTiny
 	// HelicalValleyCGAnalyticOutOfIterations: the iteration limit came first.
 	HelicalValleyCGAnalyticOutOfIterations
 	// HelicalValleyCGAnalyticOutOfEvaluations: the next objective call would have exceeded the evaluation cap.
 	HelicalValleyCGAnalyticOutOfEvaluations
-	// HelicalValleyCGAnalyticNoAcceptableStep: no trial of the line search met the step rule within its trials.
+	// HelicalValleyCGAnalyticNoAcceptableStep: no trial of the line search met the step rule at a finite point within its trials.
 	HelicalValleyCGAnalyticNoAcceptableStep
 	// HelicalValleyCGAnalyticNonFiniteStart: x0 or the objective at x0 is NaN or ±Inf.
 	HelicalValleyCGAnalyticNonFiniteStart
 	// HelicalValleyCGAnalyticNonFiniteGradient: a gradient component became NaN or ±Inf.
 	HelicalValleyCGAnalyticNonFiniteGradient
+	// HelicalValleyCGAnalyticNoDecrease: no step longer than the step limit decreased f, and f rose about as fast as the analytic gradient said it would fall: the gradient is probably wrong (see the generated gradient test).
+	HelicalValleyCGAnalyticNoDecrease
 )
 
 // String describes the status in a few words.
@@ -41,6 +43,8 @@ func (s HelicalValleyCGAnalyticStatus) String() string {
 		return "non-finite start"
 	case HelicalValleyCGAnalyticNonFiniteGradient:
 		return "non-finite gradient"
+	case HelicalValleyCGAnalyticNoDecrease:
+		return "no decrease"
 	default:
 		return "unknown status"
 	}
@@ -63,7 +67,7 @@ type HelicalValleyCGAnalyticResult struct {
 // HelicalValleyCGAnalyticLimits are the stop limits of one run. Pass them to HelicalValleyCGAnalyticWithLimits to change them at run time; HelicalValleyCGAnalyticDefaultLimits returns the spec's.
 type HelicalValleyCGAnalyticLimits struct {
 	Gradient    float64 // stop when the largest |∂f/∂xᵢ| is at most this
-	Step        float64 // stop when the largest |Δxᵢ| is at most this·(‖x‖∞ + 1)
+	Step        float64 // stop when every |Δxᵢ| is at most this·(|xᵢ| + 1)
 	Iterations  int     // most accepted steps
 	Evaluations int     // hard cap on objective calls, finite differences included; never exceeded
 }
@@ -84,7 +88,7 @@ func HelicalValleyCGAnalyticDefaultLimits() HelicalValleyCGAnalyticLimits {
 // Step rule strong-wolfe: bracket and zoom until sufficient decrease and the strong curvature condition hold.
 // Derivative analytic: the user's own gradient function (spec key `gradient`); costs no objective calls.
 // Constants: initial 1.0, c1 0.0001, c2 0.1, at most 40 trials per line search.
-// Default stop: largest gradient component ≤ 1e-08, step ≤ 1e-14·(‖x‖∞ + 1), 5000 iterations, 200000 objective calls.
+// Default stop: largest gradient component ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
 //
 // Worst case: 200000 objective calls (the evaluation cap; the iteration limit alone would allow 200001). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
@@ -106,11 +110,12 @@ func HelicalValleyCGAnalyticWithLimits(x0 [3]float64, limits HelicalValleyCGAnal
 
 // Tunables of HelicalValleyCGAnalytic from mgh.toml; the kernels below read them.
 const (
-	helicalValleyCGAnalyticStepInitial    = 1.0    // step.initial
-	helicalValleyCGAnalyticStepDecrease   = 0.0001 // step.decrease (c1)
-	helicalValleyCGAnalyticStepCurvature  = 0.1    // step.curvature (c2)
-	helicalValleyCGAnalyticStepTrials     = 40     // step.trials
-	helicalValleyCGAnalyticDerivativeCost = 0      // objective calls per gradient
+	helicalValleyCGAnalyticStepInitial    = 1.0                    // step.initial
+	helicalValleyCGAnalyticStepDecrease   = 0.0001                 // step.decrease (c1)
+	helicalValleyCGAnalyticStepCurvature  = 0.1                    // step.curvature (c2)
+	helicalValleyCGAnalyticStepTrials     = 40                     // step.trials
+	helicalValleyCGAnalyticDerivativeCost = 0                      // objective calls per gradient
+	helicalValleyCGAnalyticUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
 )
 
 // helicalValleyCGAnalyticMinimize runs the descent loop from x0 within lim:
@@ -120,9 +125,11 @@ const (
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
 //  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged);
+//     steps shorter than the step limit are left to try (converged when
+//     f was flat along d or the gradient is a difference, else no
+//     decrease);
 //  5. move, refresh the gradient, let the direction learn from the step;
-//  6. stop when the step is at most lim.Step·(‖x‖∞ + 1).
+//  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
 //
 // Before every objective call it checks that lim.Evaluations leaves room
 // for it, so the cap is never exceeded. A NaN or ±Inf at the start or in a
@@ -160,7 +167,7 @@ func helicalValleyCGAnalyticMinimize(x0 [3]float64, lim HelicalValleyCGAnalyticL
 			return out
 		}
 		if out.iterations > 0 {
-			if helicalValleyCGAnalyticMaxAbs(&s) <= lim.Step*(helicalValleyCGAnalyticMaxAbs(&x)+1) {
+			if helicalValleyCGAnalyticStepWithin(&s, &x, lim.Step) {
 				out.status = HelicalValleyCGAnalyticStepTiny
 				return out
 			}
@@ -172,7 +179,7 @@ func helicalValleyCGAnalyticMinimize(x0 [3]float64, lim HelicalValleyCGAnalyticL
 		}
 		dir.compute(&g, &d)
 		now := helicalValleyCGAnalyticDot(&g, &d)
-		if !(now < 0) {
+		if !(now < 0) || !helicalValleyCGAnalyticFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
 			dir.compute(&g, &d)
 			now = helicalValleyCGAnalyticDot(&g, &d)
@@ -181,7 +188,7 @@ func helicalValleyCGAnalyticMinimize(x0 [3]float64, lim HelicalValleyCGAnalyticL
 		if out.iterations > 0 {
 			first = dir.firstTrial(t, slope, now)
 		}
-		tiny := lim.Step * (helicalValleyCGAnalyticMaxAbs(&x) + 1) / helicalValleyCGAnalyticMaxAbs(&d) // steps t ≤ tiny pass the step test
+		tiny := helicalValleyCGAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
 		found := helicalValleyCGAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt)
 		out.evaluations += found.calls
 		switch found.end {
@@ -191,13 +198,27 @@ func helicalValleyCGAnalyticMinimize(x0 [3]float64, lim HelicalValleyCGAnalyticL
 			out.status = HelicalValleyCGAnalyticNoAcceptableStep
 			return out
 		case helicalValleyCGAnalyticSearchTiny:
-			out.status = HelicalValleyCGAnalyticStepTiny
+			// Converged to the step limit when f was flat along d to the
+			// accuracy available (see helicalValleyCGAnalyticFlatTrial), and always with finite
+			// differences: their error, not the true slope, then steers d,
+			// so x is stationary to the accuracy of the differences. With
+			// an analytic gradient that f contradicts, it is not.
+			out.status = HelicalValleyCGAnalyticNoDecrease
+			if found.flat || helicalValleyCGAnalyticDerivativeCost > 0 {
+				out.status = HelicalValleyCGAnalyticStepTiny
+			}
+			return out
+		}
+		if !helicalValleyCGAnalyticFiniteVec(&xt) {
+			out.status = HelicalValleyCGAnalyticNoAcceptableStep // the accepted trial overflowed x
 			return out
 		}
 		if !found.gradient {
 			if out.evaluations+helicalValleyCGAnalyticDerivativeCost > lim.Evaluations {
-				out.x, out.f = xt, found.value // keep the better point even without its gradient
-				out.iterations++
+				if found.value < fx { // keep a better point even without its gradient
+					out.x, out.f = xt, found.value
+					out.iterations++
+				}
 				return out
 			}
 			helicalValleyCGAnalyticDerivative(&xt, found.value, &gt)
@@ -277,7 +298,7 @@ func (s *helicalValleyCGAnalyticDirection) reset() {
 func (s *helicalValleyCGAnalyticDirection) compute(g, d *[3]float64) {
 	var beta float64
 	if s.steps > 0 && s.steps < 3 && s.squared > 0 {
-		beta = max(helicalValleyCGAnalyticDot(g, &s.change)/s.squared, 0) // N&W eq. 5.45 (PR+)
+		beta = helicalValleyCGAnalyticLarger(helicalValleyCGAnalyticDot(g, &s.change)/s.squared, 0) // N&W eq. 5.45 (PR+)
 	}
 	for i := range d {
 		d[i] = -g[i] + beta*s.previous[i] // N&W eq. 5.44
@@ -296,6 +317,16 @@ func (s *helicalValleyCGAnalyticDirection) update(step, change *[3]float64) {
 
 func (s *helicalValleyCGAnalyticDirection) firstTrial(t, slope, now float64) float64 {
 	return helicalValleyCGAnalyticScaledTrial(t, slope, now)
+}
+
+// helicalValleyCGAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func helicalValleyCGAnalyticLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
 }
 
 // helicalValleyCGAnalyticDot returns aᵀb.
@@ -338,6 +369,32 @@ func helicalValleyCGAnalyticAbs(v float64) float64 {
 	return v
 }
 
+// helicalValleyCGAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func helicalValleyCGAnalyticStepWithin(s, x *[3]float64, tol float64) bool {
+	for i := range s {
+		if !(helicalValleyCGAnalyticAbs(s[i]) <= tol*(helicalValleyCGAnalyticAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
+}
+
+// helicalValleyCGAnalyticTinyStep returns the longest t for which the step t·d from x passes the
+// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+func helicalValleyCGAnalyticTinyStep(x, d *[3]float64, tol float64) float64 {
+	tiny := float64(-1)
+	for i := range x {
+		if d[i] != 0 {
+			if t := tol * (helicalValleyCGAnalyticAbs(x[i]) + 1) / helicalValleyCGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+	}
+	return tiny
+}
+
 // helicalValleyCGAnalyticLineSearch finds a step meeting the Wolfe conditions
 //
 //	f(x + t·d) ≤ f(x) + c1·t·∇f(x)ᵀd                (sufficient decrease)
@@ -365,22 +422,18 @@ func helicalValleyCGAnalyticLineSearch(x *[3]float64, fx float64, d *[3]float64,
 	var high helicalValleyCGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                                       // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	flat := false // whether a trial failing sufficient decrease found f flat
 	t := first
 	calls := 0
 	for trial := 0; trial < helicalValleyCGAnalyticStepTrials; trial++ {
 		if bracketed && helicalValleyCGAnalyticAbs(high.step-low.step) <= tiny {
 			// The bracket is below the step limit: take low when it
-			// decreased f; else x is converged to the step limit, unless
-			// f was not finite there.
+			// decreased f; else no step decreased f, unless f was not
+			// finite there.
 			if low.step == 0 {
-				return helicalValleyCGAnalyticLineResult{calls: calls, end: helicalValleyCGAnalyticTinyOrExhausted(helicalValleyCGAnalyticFinite(high.value))}
+				return helicalValleyCGAnalyticLineResult{calls: calls, flat: flat, end: helicalValleyCGAnalyticTinyOrExhausted(helicalValleyCGAnalyticFinite(high.value))}
 			}
-			helicalValleyCGAnalyticMoveTo(xt, x, low.step, d)
-			*gt = lowGradient
-			return helicalValleyCGAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: helicalValleyCGAnalyticSearchAccepted}
-		}
-		if !bracketed && t <= tiny {
-			return helicalValleyCGAnalyticLineResult{calls: calls, end: helicalValleyCGAnalyticSearchTiny}
+			return helicalValleyCGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
 		}
 		if calls >= budget {
 			return helicalValleyCGAnalyticLineResult{calls: calls, end: helicalValleyCGAnalyticSearchOutOfBudget}
@@ -391,6 +444,7 @@ func helicalValleyCGAnalyticLineSearch(x *[3]float64, fx float64, d *[3]float64,
 		previous := low
 		if !helicalValleyCGAnalyticFinite(current.value) || current.value > fx+helicalValleyCGAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
+			flat = flat || helicalValleyCGAnalyticFinite(current.value) && helicalValleyCGAnalyticFlatTrial(fx, current.value, t, slope)
 		} else {
 			if calls+helicalValleyCGAnalyticDerivativeCost > budget {
 				return helicalValleyCGAnalyticLineResult{calls: calls, end: helicalValleyCGAnalyticSearchOutOfBudget}
@@ -417,6 +471,9 @@ func helicalValleyCGAnalyticLineSearch(x *[3]float64, fx float64, d *[3]float64,
 			t = helicalValleyCGAnalyticExpandTrial(&previous, &current)
 		}
 	}
+	if low.step > 0 {
+		return helicalValleyCGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+	}
 	return helicalValleyCGAnalyticLineResult{calls: calls, end: helicalValleyCGAnalyticSearchExhausted}
 }
 
@@ -426,6 +483,7 @@ type helicalValleyCGAnalyticLineResult struct {
 	value    float64                          // f(x + t·d)
 	calls    int                              // objective calls spent, finite differences included
 	gradient bool                             // whether gt holds ∇f(x + t·d) already
+	flat     bool                             // whether a failed trial found f flat along d (see helicalValleyCGAnalyticFlatTrial)
 	end      helicalValleyCGAnalyticSearchEnd // how the search ended
 }
 
@@ -439,10 +497,10 @@ type helicalValleyCGAnalyticLinePoint struct {
 	hasSlope           bool
 }
 
-// helicalValleyCGAnalyticTinyOrExhausted ends a search that has run below the step limit: x is
-// converged to the step limit when the last failure was a finite increase
-// of f, but a non-finite value says nothing about f near x, so the search
-// has simply failed.
+// helicalValleyCGAnalyticTinyOrExhausted ends a search that has run below the step limit: no
+// decrease was found when the last failure was a finite value, but a
+// non-finite value says nothing about f near x, so the search has simply
+// failed.
 func helicalValleyCGAnalyticTinyOrExhausted(lastFinite bool) helicalValleyCGAnalyticSearchEnd {
 	if lastFinite {
 		return helicalValleyCGAnalyticSearchTiny
@@ -454,14 +512,46 @@ const (
 	helicalValleyCGAnalyticSearchAccepted    helicalValleyCGAnalyticSearchEnd = iota // a step met the rule
 	helicalValleyCGAnalyticSearchExhausted                                           // helicalValleyCGAnalyticStepTrials trials met none
 	helicalValleyCGAnalyticSearchOutOfBudget                                         // the evaluation cap came first
-	helicalValleyCGAnalyticSearchTiny                                                // every step longer than tiny failed: x is converged to the step limit
+	helicalValleyCGAnalyticSearchTiny                                                // every step longer than tiny failed to decrease f
 )
+
+// helicalValleyCGAnalyticAcceptLow ends a Wolfe search with its best trial, which met sufficient
+// decrease though not the curvature condition, when the bracket collapsed
+// or the trials ran out. Its gradient was kept in lowGradient. (When the
+// budget runs out the search ends without a step instead, so that a capped
+// run follows the uncapped run's path up to the cap.)
+func helicalValleyCGAnalyticAcceptLow(x, d *[3]float64, low *helicalValleyCGAnalyticLinePoint, lowGradient *[3]float64, calls int, xt, gt *[3]float64) helicalValleyCGAnalyticLineResult {
+	helicalValleyCGAnalyticMoveTo(xt, x, low.step, d)
+	*gt = *lowGradient
+	return helicalValleyCGAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: helicalValleyCGAnalyticSearchAccepted}
+}
 
 // helicalValleyCGAnalyticMoveTo sets out = x + t·d.
 func helicalValleyCGAnalyticMoveTo(out, x *[3]float64, t float64, d *[3]float64) {
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
+}
+
+// helicalValleyCGAnalyticFlatTrial reports whether a failed trial t found f flat along d, to
+// the accuracy the gradient and f allow, so that no decrease can be
+// expected from any step:
+//
+//   - the change f(x + t·d) − f(x) = ft − fx is at most half the
+//     first-order prediction t·∇fᵀd in size: near a minimizer whose
+//     gradient is known only roughly (differences), the true slope along
+//     d is below that accuracy. A wrong gradient makes f rise about as
+//     fast as it predicts a fall, and never passes. This is the ratio of
+//     actual to predicted reduction of trust-region methods (Nocedal &
+//     Wright 2006, eq. 4.4);
+//   - or the prediction itself, |t·∇fᵀd|, is below the rounding unit of
+//     f, u·|f(x)|: no change that small can show in floating point, so x
+//     is a minimizer to working precision (Dennis & Schnabel 1983, §7.2,
+//     relate the gradient test to the precision of f; recalled from
+//     memory).
+func helicalValleyCGAnalyticFlatTrial(fx, ft, t, slope float64) bool {
+	predicted := helicalValleyCGAnalyticAbs(t * slope)
+	return helicalValleyCGAnalyticAbs(ft-fx) <= 0.5*predicted || predicted <= helicalValleyCGAnalyticUnitRoundoff*helicalValleyCGAnalyticAbs(fx)
 }
 
 // helicalValleyCGAnalyticCurvatureMet is the strong Wolfe curvature condition
@@ -519,7 +609,16 @@ func helicalValleyCGAnalyticSquareRoot(v float64) float64 {
 // helicalValleyCGAnalyticClampBetween returns v limited to the interval with ends a and b, in
 // either order.
 func helicalValleyCGAnalyticClampBetween(v, a, b float64) float64 {
-	return max(min(a, b), min(max(a, b), v))
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
 }
 
 // helicalValleyCGAnalyticExpandTrial picks a larger trial after current met sufficient decrease

@@ -28,10 +28,13 @@ func TestHelicalValleyCGCentralAllocatesNothing(t *testing.T) {
 	}
 }
 
-// TestHelicalValleyCGCentralRespectsEvaluationCap caps the run below what it needs and checks that the cap is never exceeded and that the run says why it stopped.
+// TestHelicalValleyCGCentralRespectsEvaluationCap caps the run below what it needs (0–63, powers of two, and one short) and checks that the cap is never exceeded and that the run says why it stopped.
 func TestHelicalValleyCGCentralRespectsEvaluationCap(t *testing.T) {
 	needed := HelicalValleyCGCentral(helicalValleyCGCentralTestStart()).Evaluations
-	for cap := 0; cap < needed; cap += 1 + cap/16 {
+	for cap := 0; cap < needed; cap++ {
+		if cap >= 64 && cap&(cap-1) != 0 && cap != needed-1 {
+			continue
+		}
 		limits := HelicalValleyCGCentralDefaultLimits()
 		limits.Evaluations = cap
 		r := HelicalValleyCGCentralWithLimits(helicalValleyCGCentralTestStart(), limits)
@@ -45,7 +48,7 @@ func TestHelicalValleyCGCentralRespectsEvaluationCap(t *testing.T) {
 func BenchmarkHelicalValleyCGCentral(b *testing.B) {
 	var r HelicalValleyCGCentralResult
 	b.ReportAllocs()
-	for b.Loop() {
+	for i := 0; i < b.N; i++ {
 		r = HelicalValleyCGCentral(helicalValleyCGCentralTestStart())
 	}
 	b.ReportMetric(float64(r.Evaluations), "evaluations/op")

@@ -28,10 +28,13 @@ func TestHelicalValleyLBFGSCentralAllocatesNothing(t *testing.T) {
 	}
 }
 
-// TestHelicalValleyLBFGSCentralRespectsEvaluationCap caps the run below what it needs and checks that the cap is never exceeded and that the run says why it stopped.
+// TestHelicalValleyLBFGSCentralRespectsEvaluationCap caps the run below what it needs (0–63, powers of two, and one short) and checks that the cap is never exceeded and that the run says why it stopped.
 func TestHelicalValleyLBFGSCentralRespectsEvaluationCap(t *testing.T) {
 	needed := HelicalValleyLBFGSCentral(helicalValleyLBFGSCentralTestStart()).Evaluations
-	for cap := 0; cap < needed; cap += 1 + cap/16 {
+	for cap := 0; cap < needed; cap++ {
+		if cap >= 64 && cap&(cap-1) != 0 && cap != needed-1 {
+			continue
+		}
 		limits := HelicalValleyLBFGSCentralDefaultLimits()
 		limits.Evaluations = cap
 		r := HelicalValleyLBFGSCentralWithLimits(helicalValleyLBFGSCentralTestStart(), limits)
@@ -45,7 +48,7 @@ func TestHelicalValleyLBFGSCentralRespectsEvaluationCap(t *testing.T) {
 func BenchmarkHelicalValleyLBFGSCentral(b *testing.B) {
 	var r HelicalValleyLBFGSCentralResult
 	b.ReportAllocs()
-	for b.Loop() {
+	for i := 0; i < b.N; i++ {
 		r = HelicalValleyLBFGSCentral(helicalValleyLBFGSCentralTestStart())
 	}
 	b.ReportMetric(float64(r.Evaluations), "evaluations/op")

@@ -28,10 +28,13 @@ func TestPenaltyI10BFGSCentralAllocatesNothing(t *testing.T) {
 	}
 }
 
-// TestPenaltyI10BFGSCentralRespectsEvaluationCap caps the run below what it needs and checks that the cap is never exceeded and that the run says why it stopped.
+// TestPenaltyI10BFGSCentralRespectsEvaluationCap caps the run below what it needs (0–63, powers of two, and one short) and checks that the cap is never exceeded and that the run says why it stopped.
 func TestPenaltyI10BFGSCentralRespectsEvaluationCap(t *testing.T) {
 	needed := PenaltyI10BFGSCentral(penaltyI10BFGSCentralTestStart()).Evaluations
-	for cap := 0; cap < needed; cap += 1 + cap/16 {
+	for cap := 0; cap < needed; cap++ {
+		if cap >= 64 && cap&(cap-1) != 0 && cap != needed-1 {
+			continue
+		}
 		limits := PenaltyI10BFGSCentralDefaultLimits()
 		limits.Evaluations = cap
 		r := PenaltyI10BFGSCentralWithLimits(penaltyI10BFGSCentralTestStart(), limits)
@@ -45,7 +48,7 @@ func TestPenaltyI10BFGSCentralRespectsEvaluationCap(t *testing.T) {
 func BenchmarkPenaltyI10BFGSCentral(b *testing.B) {
 	var r PenaltyI10BFGSCentralResult
 	b.ReportAllocs()
-	for b.Loop() {
+	for i := 0; i < b.N; i++ {
 		r = PenaltyI10BFGSCentral(penaltyI10BFGSCentralTestStart())
 	}
 	b.ReportMetric(float64(r.Evaluations), "evaluations/op")

@@ -28,10 +28,13 @@ func TestPenaltyI10CGCentralAllocatesNothing(t *testing.T) {
 	}
 }
 
-// TestPenaltyI10CGCentralRespectsEvaluationCap caps the run below what it needs and checks that the cap is never exceeded and that the run says why it stopped.
+// TestPenaltyI10CGCentralRespectsEvaluationCap caps the run below what it needs (0–63, powers of two, and one short) and checks that the cap is never exceeded and that the run says why it stopped.
 func TestPenaltyI10CGCentralRespectsEvaluationCap(t *testing.T) {
 	needed := PenaltyI10CGCentral(penaltyI10CGCentralTestStart()).Evaluations
-	for cap := 0; cap < needed; cap += 1 + cap/16 {
+	for cap := 0; cap < needed; cap++ {
+		if cap >= 64 && cap&(cap-1) != 0 && cap != needed-1 {
+			continue
+		}
 		limits := PenaltyI10CGCentralDefaultLimits()
 		limits.Evaluations = cap
 		r := PenaltyI10CGCentralWithLimits(penaltyI10CGCentralTestStart(), limits)
@@ -45,7 +48,7 @@ func TestPenaltyI10CGCentralRespectsEvaluationCap(t *testing.T) {
 func BenchmarkPenaltyI10CGCentral(b *testing.B) {
 	var r PenaltyI10CGCentralResult
 	b.ReportAllocs()
-	for b.Loop() {
+	for i := 0; i < b.N; i++ {
 		r = PenaltyI10CGCentral(penaltyI10CGCentralTestStart())
 	}
 	b.ReportMetric(float64(r.Evaluations), "evaluations/op")

@@ -10,18 +10,20 @@ type PenaltyI10LBFGSAnalyticStatus uint8
 const (
 	// PenaltyI10LBFGSAnalyticGradientSmall: the largest gradient component fell to the gradient limit: converged.
 	PenaltyI10LBFGSAnalyticGradientSmall PenaltyI10LBFGSAnalyticStatus = iota + 1
-	// PenaltyI10LBFGSAnalyticStepTiny: the last step was at most the step limit relative to ‖x‖∞ + 1: converged.
+	// PenaltyI10LBFGSAnalyticStepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f while f was flat to the accuracy of the gradient (always so with finite differences): converged.
 	PenaltyI10LBFGSAnalyticStepTiny
 	// PenaltyI10LBFGSAnalyticOutOfIterations: the iteration limit came first.
 	PenaltyI10LBFGSAnalyticOutOfIterations
 	// PenaltyI10LBFGSAnalyticOutOfEvaluations: the next objective call would have exceeded the evaluation cap.
 	PenaltyI10LBFGSAnalyticOutOfEvaluations
-	// PenaltyI10LBFGSAnalyticNoAcceptableStep: no trial of the line search met the step rule within its trials.
+	// PenaltyI10LBFGSAnalyticNoAcceptableStep: no trial of the line search met the step rule at a finite point within its trials.
 	PenaltyI10LBFGSAnalyticNoAcceptableStep
 	// PenaltyI10LBFGSAnalyticNonFiniteStart: x0 or the objective at x0 is NaN or ±Inf.
 	PenaltyI10LBFGSAnalyticNonFiniteStart
 	// PenaltyI10LBFGSAnalyticNonFiniteGradient: a gradient component became NaN or ±Inf.
 	PenaltyI10LBFGSAnalyticNonFiniteGradient
+	// PenaltyI10LBFGSAnalyticNoDecrease: no step longer than the step limit decreased f, and f rose about as fast as the analytic gradient said it would fall: the gradient is probably wrong (see the generated gradient test).
+	PenaltyI10LBFGSAnalyticNoDecrease
 )
 
 // String describes the status in a few words.
@@ -41,6 +43,8 @@ func (s PenaltyI10LBFGSAnalyticStatus) String() string {
 		return "non-finite start"
 	case PenaltyI10LBFGSAnalyticNonFiniteGradient:
 		return "non-finite gradient"
+	case PenaltyI10LBFGSAnalyticNoDecrease:
+		return "no decrease"
 	default:
 		return "unknown status"
 	}
@@ -63,7 +67,7 @@ type PenaltyI10LBFGSAnalyticResult struct {
 // PenaltyI10LBFGSAnalyticLimits are the stop limits of one run. Pass them to PenaltyI10LBFGSAnalyticWithLimits to change them at run time; PenaltyI10LBFGSAnalyticDefaultLimits returns the spec's.
 type PenaltyI10LBFGSAnalyticLimits struct {
 	Gradient    float64 // stop when the largest |∂f/∂xᵢ| is at most this
-	Step        float64 // stop when the largest |Δxᵢ| is at most this·(‖x‖∞ + 1)
+	Step        float64 // stop when every |Δxᵢ| is at most this·(|xᵢ| + 1)
 	Iterations  int     // most accepted steps
 	Evaluations int     // hard cap on objective calls, finite differences included; never exceeded
 }
@@ -84,7 +88,7 @@ func PenaltyI10LBFGSAnalyticDefaultLimits() PenaltyI10LBFGSAnalyticLimits {
 // Step rule wolfe: bracket and zoom until sufficient decrease and the curvature condition hold.
 // Derivative analytic: the user's own gradient function (spec key `gradient`); costs no objective calls.
 // Constants: initial 1.0, c1 0.0001, c2 0.9, at most 40 trials per line search, memory 5 pairs.
-// Default stop: largest gradient component ≤ 1e-08, step ≤ 1e-14·(‖x‖∞ + 1), 5000 iterations, 200000 objective calls.
+// Default stop: largest gradient component ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
 //
 // Worst case: 200000 objective calls (the evaluation cap; the iteration limit alone would allow 200001). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
@@ -122,9 +126,11 @@ const (
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
 //  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged);
+//     steps shorter than the step limit are left to try (converged when
+//     f was flat along d or the gradient is a difference, else no
+//     decrease);
 //  5. move, refresh the gradient, let the direction learn from the step;
-//  6. stop when the step is at most lim.Step·(‖x‖∞ + 1).
+//  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
 //
 // Before every objective call it checks that lim.Evaluations leaves room
 // for it, so the cap is never exceeded. A NaN or ±Inf at the start or in a
@@ -162,7 +168,7 @@ func penaltyI10LBFGSAnalyticMinimize(x0 [10]float64, lim PenaltyI10LBFGSAnalytic
 			return out
 		}
 		if out.iterations > 0 {
-			if penaltyI10LBFGSAnalyticMaxAbs(&s) <= lim.Step*(penaltyI10LBFGSAnalyticMaxAbs(&x)+1) {
+			if penaltyI10LBFGSAnalyticStepWithin(&s, &x, lim.Step) {
 				out.status = PenaltyI10LBFGSAnalyticStepTiny
 				return out
 			}
@@ -174,7 +180,7 @@ func penaltyI10LBFGSAnalyticMinimize(x0 [10]float64, lim PenaltyI10LBFGSAnalytic
 		}
 		dir.compute(&g, &d)
 		now := penaltyI10LBFGSAnalyticDot(&g, &d)
-		if !(now < 0) {
+		if !(now < 0) || !penaltyI10LBFGSAnalyticFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
 			dir.compute(&g, &d)
 			now = penaltyI10LBFGSAnalyticDot(&g, &d)
@@ -183,7 +189,7 @@ func penaltyI10LBFGSAnalyticMinimize(x0 [10]float64, lim PenaltyI10LBFGSAnalytic
 		if out.iterations > 0 {
 			first = dir.firstTrial(t, slope, now)
 		}
-		tiny := lim.Step * (penaltyI10LBFGSAnalyticMaxAbs(&x) + 1) / penaltyI10LBFGSAnalyticMaxAbs(&d) // steps t ≤ tiny pass the step test
+		tiny := penaltyI10LBFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
 		found := penaltyI10LBFGSAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt)
 		out.evaluations += found.calls
 		switch found.end {
@@ -193,13 +199,27 @@ func penaltyI10LBFGSAnalyticMinimize(x0 [10]float64, lim PenaltyI10LBFGSAnalytic
 			out.status = PenaltyI10LBFGSAnalyticNoAcceptableStep
 			return out
 		case penaltyI10LBFGSAnalyticSearchTiny:
-			out.status = PenaltyI10LBFGSAnalyticStepTiny
+			// Converged to the step limit when f was flat along d to the
+			// accuracy available (see penaltyI10LBFGSAnalyticFlatTrial), and always with finite
+			// differences: their error, not the true slope, then steers d,
+			// so x is stationary to the accuracy of the differences. With
+			// an analytic gradient that f contradicts, it is not.
+			out.status = PenaltyI10LBFGSAnalyticNoDecrease
+			if found.flat || penaltyI10LBFGSAnalyticDerivativeCost > 0 {
+				out.status = PenaltyI10LBFGSAnalyticStepTiny
+			}
+			return out
+		}
+		if !penaltyI10LBFGSAnalyticFiniteVec(&xt) {
+			out.status = PenaltyI10LBFGSAnalyticNoAcceptableStep // the accepted trial overflowed x
 			return out
 		}
 		if !found.gradient {
 			if out.evaluations+penaltyI10LBFGSAnalyticDerivativeCost > lim.Evaluations {
-				out.x, out.f = xt, found.value // keep the better point even without its gradient
-				out.iterations++
+				if found.value < fx { // keep a better point even without its gradient
+					out.x, out.f = xt, found.value
+					out.iterations++
+				}
 				return out
 			}
 			penaltyI10LBFGSAnalyticDerivative(&xt, found.value, &gt)
@@ -271,7 +291,7 @@ type penaltyI10LBFGSAnalyticDirection struct {
 	s, y   [penaltyI10LBFGSAnalyticLbfgsMemory][10]float64
 	rho    [penaltyI10LBFGSAnalyticLbfgsMemory]float64
 	newest int // index of the newest pair
-	count  int
+	count  int // pairs held, at most penaltyI10LBFGSAnalyticLbfgsMemory
 }
 
 func (s *penaltyI10LBFGSAnalyticDirection) reset() {
@@ -356,13 +376,14 @@ func penaltyI10LBFGSAnalyticNegate(out, x *[10]float64) {
 
 // penaltyI10LBFGSAnalyticCurvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
 // update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
-// as (sᵀy)² > u·(sᵀs)(yᵀy) with u the unit roundoff, so that the updated
+// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
+// that float32 does not overflow, with u the unit roundoff, so that the updated
 // matrix stays positive definite and well conditioned (Nocedal & Wright
 // 2006, §6.1, condition 6.7; the relative threshold √u·‖s‖‖y‖ is from
 // Dennis & Schnabel 1983, Algorithm A9.4.1, recalled from memory).
 func penaltyI10LBFGSAnalyticCurvatureSafe(s, y *[10]float64) bool {
 	sy := penaltyI10LBFGSAnalyticDot(s, y)
-	return sy > 0 && sy*sy > penaltyI10LBFGSAnalyticUnitRoundoff*penaltyI10LBFGSAnalyticDot(s, s)*penaltyI10LBFGSAnalyticDot(y, y)
+	return sy > 0 && (sy/penaltyI10LBFGSAnalyticDot(s, s))*(sy/penaltyI10LBFGSAnalyticDot(y, y)) > penaltyI10LBFGSAnalyticUnitRoundoff
 }
 
 // penaltyI10LBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
@@ -382,6 +403,32 @@ func penaltyI10LBFGSAnalyticAbs(v float64) float64 {
 		return -v
 	}
 	return v
+}
+
+// penaltyI10LBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func penaltyI10LBFGSAnalyticStepWithin(s, x *[10]float64, tol float64) bool {
+	for i := range s {
+		if !(penaltyI10LBFGSAnalyticAbs(s[i]) <= tol*(penaltyI10LBFGSAnalyticAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
+}
+
+// penaltyI10LBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
+// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+func penaltyI10LBFGSAnalyticTinyStep(x, d *[10]float64, tol float64) float64 {
+	tiny := float64(-1)
+	for i := range x {
+		if d[i] != 0 {
+			if t := tol * (penaltyI10LBFGSAnalyticAbs(x[i]) + 1) / penaltyI10LBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+	}
+	return tiny
 }
 
 // penaltyI10LBFGSAnalyticLineSearch finds a step meeting the Wolfe conditions
@@ -411,22 +458,18 @@ func penaltyI10LBFGSAnalyticLineSearch(x *[10]float64, fx float64, d *[10]float6
 	var high penaltyI10LBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                      // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	flat := false // whether a trial failing sufficient decrease found f flat
 	t := first
 	calls := 0
 	for trial := 0; trial < penaltyI10LBFGSAnalyticStepTrials; trial++ {
 		if bracketed && penaltyI10LBFGSAnalyticAbs(high.step-low.step) <= tiny {
 			// The bracket is below the step limit: take low when it
-			// decreased f; else x is converged to the step limit, unless
-			// f was not finite there.
+			// decreased f; else no step decreased f, unless f was not
+			// finite there.
 			if low.step == 0 {
-				return penaltyI10LBFGSAnalyticLineResult{calls: calls, end: penaltyI10LBFGSAnalyticTinyOrExhausted(penaltyI10LBFGSAnalyticFinite(high.value))}
+				return penaltyI10LBFGSAnalyticLineResult{calls: calls, flat: flat, end: penaltyI10LBFGSAnalyticTinyOrExhausted(penaltyI10LBFGSAnalyticFinite(high.value))}
 			}
-			penaltyI10LBFGSAnalyticMoveTo(xt, x, low.step, d)
-			*gt = lowGradient
-			return penaltyI10LBFGSAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: penaltyI10LBFGSAnalyticSearchAccepted}
-		}
-		if !bracketed && t <= tiny {
-			return penaltyI10LBFGSAnalyticLineResult{calls: calls, end: penaltyI10LBFGSAnalyticSearchTiny}
+			return penaltyI10LBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
 		}
 		if calls >= budget {
 			return penaltyI10LBFGSAnalyticLineResult{calls: calls, end: penaltyI10LBFGSAnalyticSearchOutOfBudget}
@@ -437,6 +480,7 @@ func penaltyI10LBFGSAnalyticLineSearch(x *[10]float64, fx float64, d *[10]float6
 		previous := low
 		if !penaltyI10LBFGSAnalyticFinite(current.value) || current.value > fx+penaltyI10LBFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
+			flat = flat || penaltyI10LBFGSAnalyticFinite(current.value) && penaltyI10LBFGSAnalyticFlatTrial(fx, current.value, t, slope)
 		} else {
 			if calls+penaltyI10LBFGSAnalyticDerivativeCost > budget {
 				return penaltyI10LBFGSAnalyticLineResult{calls: calls, end: penaltyI10LBFGSAnalyticSearchOutOfBudget}
@@ -463,6 +507,9 @@ func penaltyI10LBFGSAnalyticLineSearch(x *[10]float64, fx float64, d *[10]float6
 			t = penaltyI10LBFGSAnalyticExpandTrial(&previous, &current)
 		}
 	}
+	if low.step > 0 {
+		return penaltyI10LBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+	}
 	return penaltyI10LBFGSAnalyticLineResult{calls: calls, end: penaltyI10LBFGSAnalyticSearchExhausted}
 }
 
@@ -472,6 +519,7 @@ type penaltyI10LBFGSAnalyticLineResult struct {
 	value    float64                          // f(x + t·d)
 	calls    int                              // objective calls spent, finite differences included
 	gradient bool                             // whether gt holds ∇f(x + t·d) already
+	flat     bool                             // whether a failed trial found f flat along d (see penaltyI10LBFGSAnalyticFlatTrial)
 	end      penaltyI10LBFGSAnalyticSearchEnd // how the search ended
 }
 
@@ -485,10 +533,10 @@ type penaltyI10LBFGSAnalyticLinePoint struct {
 	hasSlope           bool
 }
 
-// penaltyI10LBFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: x is
-// converged to the step limit when the last failure was a finite increase
-// of f, but a non-finite value says nothing about f near x, so the search
-// has simply failed.
+// penaltyI10LBFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: no
+// decrease was found when the last failure was a finite value, but a
+// non-finite value says nothing about f near x, so the search has simply
+// failed.
 func penaltyI10LBFGSAnalyticTinyOrExhausted(lastFinite bool) penaltyI10LBFGSAnalyticSearchEnd {
 	if lastFinite {
 		return penaltyI10LBFGSAnalyticSearchTiny
@@ -500,14 +548,46 @@ const (
 	penaltyI10LBFGSAnalyticSearchAccepted    penaltyI10LBFGSAnalyticSearchEnd = iota // a step met the rule
 	penaltyI10LBFGSAnalyticSearchExhausted                                           // penaltyI10LBFGSAnalyticStepTrials trials met none
 	penaltyI10LBFGSAnalyticSearchOutOfBudget                                         // the evaluation cap came first
-	penaltyI10LBFGSAnalyticSearchTiny                                                // every step longer than tiny failed: x is converged to the step limit
+	penaltyI10LBFGSAnalyticSearchTiny                                                // every step longer than tiny failed to decrease f
 )
+
+// penaltyI10LBFGSAnalyticAcceptLow ends a Wolfe search with its best trial, which met sufficient
+// decrease though not the curvature condition, when the bracket collapsed
+// or the trials ran out. Its gradient was kept in lowGradient. (When the
+// budget runs out the search ends without a step instead, so that a capped
+// run follows the uncapped run's path up to the cap.)
+func penaltyI10LBFGSAnalyticAcceptLow(x, d *[10]float64, low *penaltyI10LBFGSAnalyticLinePoint, lowGradient *[10]float64, calls int, xt, gt *[10]float64) penaltyI10LBFGSAnalyticLineResult {
+	penaltyI10LBFGSAnalyticMoveTo(xt, x, low.step, d)
+	*gt = *lowGradient
+	return penaltyI10LBFGSAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: penaltyI10LBFGSAnalyticSearchAccepted}
+}
 
 // penaltyI10LBFGSAnalyticMoveTo sets out = x + t·d.
 func penaltyI10LBFGSAnalyticMoveTo(out, x *[10]float64, t float64, d *[10]float64) {
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
+}
+
+// penaltyI10LBFGSAnalyticFlatTrial reports whether a failed trial t found f flat along d, to
+// the accuracy the gradient and f allow, so that no decrease can be
+// expected from any step:
+//
+//   - the change f(x + t·d) − f(x) = ft − fx is at most half the
+//     first-order prediction t·∇fᵀd in size: near a minimizer whose
+//     gradient is known only roughly (differences), the true slope along
+//     d is below that accuracy. A wrong gradient makes f rise about as
+//     fast as it predicts a fall, and never passes. This is the ratio of
+//     actual to predicted reduction of trust-region methods (Nocedal &
+//     Wright 2006, eq. 4.4);
+//   - or the prediction itself, |t·∇fᵀd|, is below the rounding unit of
+//     f, u·|f(x)|: no change that small can show in floating point, so x
+//     is a minimizer to working precision (Dennis & Schnabel 1983, §7.2,
+//     relate the gradient test to the precision of f; recalled from
+//     memory).
+func penaltyI10LBFGSAnalyticFlatTrial(fx, ft, t, slope float64) bool {
+	predicted := penaltyI10LBFGSAnalyticAbs(t * slope)
+	return penaltyI10LBFGSAnalyticAbs(ft-fx) <= 0.5*predicted || predicted <= penaltyI10LBFGSAnalyticUnitRoundoff*penaltyI10LBFGSAnalyticAbs(fx)
 }
 
 // penaltyI10LBFGSAnalyticCurvatureMet is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)
@@ -565,7 +645,16 @@ func penaltyI10LBFGSAnalyticSquareRoot(v float64) float64 {
 // penaltyI10LBFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
 // either order.
 func penaltyI10LBFGSAnalyticClampBetween(v, a, b float64) float64 {
-	return max(min(a, b), min(max(a, b), v))
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
 }
 
 // penaltyI10LBFGSAnalyticExpandTrial picks a larger trial after current met sufficient decrease

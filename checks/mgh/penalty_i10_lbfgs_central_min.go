@@ -10,18 +10,20 @@ type PenaltyI10LBFGSCentralStatus uint8
 const (
 	// PenaltyI10LBFGSCentralGradientSmall: the largest gradient component fell to the gradient limit: converged.
 	PenaltyI10LBFGSCentralGradientSmall PenaltyI10LBFGSCentralStatus = iota + 1
-	// PenaltyI10LBFGSCentralStepTiny: the last step was at most the step limit relative to ‖x‖∞ + 1: converged.
+	// PenaltyI10LBFGSCentralStepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f while f was flat to the accuracy of the gradient (always so with finite differences): converged.
 	PenaltyI10LBFGSCentralStepTiny
 	// PenaltyI10LBFGSCentralOutOfIterations: the iteration limit came first.
 	PenaltyI10LBFGSCentralOutOfIterations
 	// PenaltyI10LBFGSCentralOutOfEvaluations: the next objective call would have exceeded the evaluation cap.
 	PenaltyI10LBFGSCentralOutOfEvaluations
-	// PenaltyI10LBFGSCentralNoAcceptableStep: no trial of the line search met the step rule within its trials.
+	// PenaltyI10LBFGSCentralNoAcceptableStep: no trial of the line search met the step rule at a finite point within its trials.
 	PenaltyI10LBFGSCentralNoAcceptableStep
 	// PenaltyI10LBFGSCentralNonFiniteStart: x0 or the objective at x0 is NaN or ±Inf.
 	PenaltyI10LBFGSCentralNonFiniteStart
 	// PenaltyI10LBFGSCentralNonFiniteGradient: a gradient component became NaN or ±Inf.
 	PenaltyI10LBFGSCentralNonFiniteGradient
+	// PenaltyI10LBFGSCentralNoDecrease: no step longer than the step limit decreased f, and f rose about as fast as the analytic gradient said it would fall: the gradient is probably wrong (see the generated gradient test).
+	PenaltyI10LBFGSCentralNoDecrease
 )
 
 // String describes the status in a few words.
@@ -41,6 +43,8 @@ func (s PenaltyI10LBFGSCentralStatus) String() string {
 		return "non-finite start"
 	case PenaltyI10LBFGSCentralNonFiniteGradient:
 		return "non-finite gradient"
+	case PenaltyI10LBFGSCentralNoDecrease:
+		return "no decrease"
 	default:
 		return "unknown status"
 	}
@@ -63,7 +67,7 @@ type PenaltyI10LBFGSCentralResult struct {
 // PenaltyI10LBFGSCentralLimits are the stop limits of one run. Pass them to PenaltyI10LBFGSCentralWithLimits to change them at run time; PenaltyI10LBFGSCentralDefaultLimits returns the spec's.
 type PenaltyI10LBFGSCentralLimits struct {
 	Gradient    float64 // stop when the largest |∂f/∂xᵢ| is at most this
-	Step        float64 // stop when the largest |Δxᵢ| is at most this·(‖x‖∞ + 1)
+	Step        float64 // stop when every |Δxᵢ| is at most this·(|xᵢ| + 1)
 	Iterations  int     // most accepted steps
 	Evaluations int     // hard cap on objective calls, finite differences included; never exceeded
 }
@@ -84,7 +88,7 @@ func PenaltyI10LBFGSCentralDefaultLimits() PenaltyI10LBFGSCentralLimits {
 // Step rule wolfe: bracket and zoom until sufficient decrease and the curvature condition hold.
 // Derivative central: central differences: 2·dim objective calls per gradient, error O(u^(2/3)).
 // Constants: initial 1.0, c1 0.0001, c2 0.9, at most 40 trials per line search, memory 5 pairs.
-// Default stop: largest gradient component ≤ 1e-08, step ≤ 1e-14·(‖x‖∞ + 1), 5000 iterations, 200000 objective calls.
+// Default stop: largest gradient component ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
 //
 // Worst case: 200000 objective calls, 20 of them per gradient (the evaluation cap; the iteration limit alone would allow 4200021). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
@@ -123,9 +127,11 @@ const (
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
 //  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged);
+//     steps shorter than the step limit are left to try (converged when
+//     f was flat along d or the gradient is a difference, else no
+//     decrease);
 //  5. move, refresh the gradient, let the direction learn from the step;
-//  6. stop when the step is at most lim.Step·(‖x‖∞ + 1).
+//  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
 //
 // Before every objective call it checks that lim.Evaluations leaves room
 // for it, so the cap is never exceeded. A NaN or ±Inf at the start or in a
@@ -163,7 +169,7 @@ func penaltyI10LBFGSCentralMinimize(x0 [10]float64, lim PenaltyI10LBFGSCentralLi
 			return out
 		}
 		if out.iterations > 0 {
-			if penaltyI10LBFGSCentralMaxAbs(&s) <= lim.Step*(penaltyI10LBFGSCentralMaxAbs(&x)+1) {
+			if penaltyI10LBFGSCentralStepWithin(&s, &x, lim.Step) {
 				out.status = PenaltyI10LBFGSCentralStepTiny
 				return out
 			}
@@ -175,7 +181,7 @@ func penaltyI10LBFGSCentralMinimize(x0 [10]float64, lim PenaltyI10LBFGSCentralLi
 		}
 		dir.compute(&g, &d)
 		now := penaltyI10LBFGSCentralDot(&g, &d)
-		if !(now < 0) {
+		if !(now < 0) || !penaltyI10LBFGSCentralFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
 			dir.compute(&g, &d)
 			now = penaltyI10LBFGSCentralDot(&g, &d)
@@ -184,7 +190,7 @@ func penaltyI10LBFGSCentralMinimize(x0 [10]float64, lim PenaltyI10LBFGSCentralLi
 		if out.iterations > 0 {
 			first = dir.firstTrial(t, slope, now)
 		}
-		tiny := lim.Step * (penaltyI10LBFGSCentralMaxAbs(&x) + 1) / penaltyI10LBFGSCentralMaxAbs(&d) // steps t ≤ tiny pass the step test
+		tiny := penaltyI10LBFGSCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
 		found := penaltyI10LBFGSCentralLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt)
 		out.evaluations += found.calls
 		switch found.end {
@@ -194,13 +200,27 @@ func penaltyI10LBFGSCentralMinimize(x0 [10]float64, lim PenaltyI10LBFGSCentralLi
 			out.status = PenaltyI10LBFGSCentralNoAcceptableStep
 			return out
 		case penaltyI10LBFGSCentralSearchTiny:
-			out.status = PenaltyI10LBFGSCentralStepTiny
+			// Converged to the step limit when f was flat along d to the
+			// accuracy available (see penaltyI10LBFGSCentralFlatTrial), and always with finite
+			// differences: their error, not the true slope, then steers d,
+			// so x is stationary to the accuracy of the differences. With
+			// an analytic gradient that f contradicts, it is not.
+			out.status = PenaltyI10LBFGSCentralNoDecrease
+			if found.flat || penaltyI10LBFGSCentralDerivativeCost > 0 {
+				out.status = PenaltyI10LBFGSCentralStepTiny
+			}
+			return out
+		}
+		if !penaltyI10LBFGSCentralFiniteVec(&xt) {
+			out.status = PenaltyI10LBFGSCentralNoAcceptableStep // the accepted trial overflowed x
 			return out
 		}
 		if !found.gradient {
 			if out.evaluations+penaltyI10LBFGSCentralDerivativeCost > lim.Evaluations {
-				out.x, out.f = xt, found.value // keep the better point even without its gradient
-				out.iterations++
+				if found.value < fx { // keep a better point even without its gradient
+					out.x, out.f = xt, found.value
+					out.iterations++
+				}
 				return out
 			}
 			penaltyI10LBFGSCentralDerivative(&xt, found.value, &gt)
@@ -255,7 +275,7 @@ func penaltyI10LBFGSCentralDerivative(x *[10]float64, fx float64, g *[10]float64
 	probe := *x
 	for i := range probe {
 		xi := probe[i]
-		h := penaltyI10LBFGSCentralCentralScale * max(1, penaltyI10LBFGSCentralAbs(xi)) // N&W §8.1: h = ∛u·max(1,|x_i|)
+		h := penaltyI10LBFGSCentralCentralScale * penaltyI10LBFGSCentralLarger(1, penaltyI10LBFGSCentralAbs(xi)) // N&W §8.1: h = ∛u·max(1,|x_i|)
 		up := xi + h
 		down := xi - h
 		probe[i] = up
@@ -265,6 +285,16 @@ func penaltyI10LBFGSCentralDerivative(x *[10]float64, fx float64, g *[10]float64
 		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
 		probe[i] = xi
 	}
+}
+
+// penaltyI10LBFGSCentralLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func penaltyI10LBFGSCentralLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
 }
 
 // penaltyI10LBFGSCentralAbs returns |v|.
@@ -297,7 +327,7 @@ type penaltyI10LBFGSCentralDirection struct {
 	s, y   [penaltyI10LBFGSCentralLbfgsMemory][10]float64
 	rho    [penaltyI10LBFGSCentralLbfgsMemory]float64
 	newest int // index of the newest pair
-	count  int
+	count  int // pairs held, at most penaltyI10LBFGSCentralLbfgsMemory
 }
 
 func (s *penaltyI10LBFGSCentralDirection) reset() {
@@ -382,13 +412,14 @@ func penaltyI10LBFGSCentralNegate(out, x *[10]float64) {
 
 // penaltyI10LBFGSCentralCurvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
 // update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
-// as (sᵀy)² > u·(sᵀs)(yᵀy) with u the unit roundoff, so that the updated
+// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
+// that float32 does not overflow, with u the unit roundoff, so that the updated
 // matrix stays positive definite and well conditioned (Nocedal & Wright
 // 2006, §6.1, condition 6.7; the relative threshold √u·‖s‖‖y‖ is from
 // Dennis & Schnabel 1983, Algorithm A9.4.1, recalled from memory).
 func penaltyI10LBFGSCentralCurvatureSafe(s, y *[10]float64) bool {
 	sy := penaltyI10LBFGSCentralDot(s, y)
-	return sy > 0 && sy*sy > penaltyI10LBFGSCentralUnitRoundoff*penaltyI10LBFGSCentralDot(s, s)*penaltyI10LBFGSCentralDot(y, y)
+	return sy > 0 && (sy/penaltyI10LBFGSCentralDot(s, s))*(sy/penaltyI10LBFGSCentralDot(y, y)) > penaltyI10LBFGSCentralUnitRoundoff
 }
 
 // penaltyI10LBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
@@ -400,6 +431,32 @@ func penaltyI10LBFGSCentralMaxAbs(x *[10]float64) float64 {
 		}
 	}
 	return m
+}
+
+// penaltyI10LBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func penaltyI10LBFGSCentralStepWithin(s, x *[10]float64, tol float64) bool {
+	for i := range s {
+		if !(penaltyI10LBFGSCentralAbs(s[i]) <= tol*(penaltyI10LBFGSCentralAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
+}
+
+// penaltyI10LBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
+// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+func penaltyI10LBFGSCentralTinyStep(x, d *[10]float64, tol float64) float64 {
+	tiny := float64(-1)
+	for i := range x {
+		if d[i] != 0 {
+			if t := tol * (penaltyI10LBFGSCentralAbs(x[i]) + 1) / penaltyI10LBFGSCentralAbs(d[i]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+	}
+	return tiny
 }
 
 // penaltyI10LBFGSCentralLineSearch finds a step meeting the Wolfe conditions
@@ -429,22 +486,18 @@ func penaltyI10LBFGSCentralLineSearch(x *[10]float64, fx float64, d *[10]float64
 	var high penaltyI10LBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                     // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	flat := false // whether a trial failing sufficient decrease found f flat
 	t := first
 	calls := 0
 	for trial := 0; trial < penaltyI10LBFGSCentralStepTrials; trial++ {
 		if bracketed && penaltyI10LBFGSCentralAbs(high.step-low.step) <= tiny {
 			// The bracket is below the step limit: take low when it
-			// decreased f; else x is converged to the step limit, unless
-			// f was not finite there.
+			// decreased f; else no step decreased f, unless f was not
+			// finite there.
 			if low.step == 0 {
-				return penaltyI10LBFGSCentralLineResult{calls: calls, end: penaltyI10LBFGSCentralTinyOrExhausted(penaltyI10LBFGSCentralFinite(high.value))}
+				return penaltyI10LBFGSCentralLineResult{calls: calls, flat: flat, end: penaltyI10LBFGSCentralTinyOrExhausted(penaltyI10LBFGSCentralFinite(high.value))}
 			}
-			penaltyI10LBFGSCentralMoveTo(xt, x, low.step, d)
-			*gt = lowGradient
-			return penaltyI10LBFGSCentralLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: penaltyI10LBFGSCentralSearchAccepted}
-		}
-		if !bracketed && t <= tiny {
-			return penaltyI10LBFGSCentralLineResult{calls: calls, end: penaltyI10LBFGSCentralSearchTiny}
+			return penaltyI10LBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
 		}
 		if calls >= budget {
 			return penaltyI10LBFGSCentralLineResult{calls: calls, end: penaltyI10LBFGSCentralSearchOutOfBudget}
@@ -455,6 +508,7 @@ func penaltyI10LBFGSCentralLineSearch(x *[10]float64, fx float64, d *[10]float64
 		previous := low
 		if !penaltyI10LBFGSCentralFinite(current.value) || current.value > fx+penaltyI10LBFGSCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
+			flat = flat || penaltyI10LBFGSCentralFinite(current.value) && penaltyI10LBFGSCentralFlatTrial(fx, current.value, t, slope)
 		} else {
 			if calls+penaltyI10LBFGSCentralDerivativeCost > budget {
 				return penaltyI10LBFGSCentralLineResult{calls: calls, end: penaltyI10LBFGSCentralSearchOutOfBudget}
@@ -481,6 +535,9 @@ func penaltyI10LBFGSCentralLineSearch(x *[10]float64, fx float64, d *[10]float64
 			t = penaltyI10LBFGSCentralExpandTrial(&previous, &current)
 		}
 	}
+	if low.step > 0 {
+		return penaltyI10LBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+	}
 	return penaltyI10LBFGSCentralLineResult{calls: calls, end: penaltyI10LBFGSCentralSearchExhausted}
 }
 
@@ -490,6 +547,7 @@ type penaltyI10LBFGSCentralLineResult struct {
 	value    float64                         // f(x + t·d)
 	calls    int                             // objective calls spent, finite differences included
 	gradient bool                            // whether gt holds ∇f(x + t·d) already
+	flat     bool                            // whether a failed trial found f flat along d (see penaltyI10LBFGSCentralFlatTrial)
 	end      penaltyI10LBFGSCentralSearchEnd // how the search ended
 }
 
@@ -503,10 +561,10 @@ type penaltyI10LBFGSCentralLinePoint struct {
 	hasSlope           bool
 }
 
-// penaltyI10LBFGSCentralTinyOrExhausted ends a search that has run below the step limit: x is
-// converged to the step limit when the last failure was a finite increase
-// of f, but a non-finite value says nothing about f near x, so the search
-// has simply failed.
+// penaltyI10LBFGSCentralTinyOrExhausted ends a search that has run below the step limit: no
+// decrease was found when the last failure was a finite value, but a
+// non-finite value says nothing about f near x, so the search has simply
+// failed.
 func penaltyI10LBFGSCentralTinyOrExhausted(lastFinite bool) penaltyI10LBFGSCentralSearchEnd {
 	if lastFinite {
 		return penaltyI10LBFGSCentralSearchTiny
@@ -518,14 +576,46 @@ const (
 	penaltyI10LBFGSCentralSearchAccepted    penaltyI10LBFGSCentralSearchEnd = iota // a step met the rule
 	penaltyI10LBFGSCentralSearchExhausted                                          // penaltyI10LBFGSCentralStepTrials trials met none
 	penaltyI10LBFGSCentralSearchOutOfBudget                                        // the evaluation cap came first
-	penaltyI10LBFGSCentralSearchTiny                                               // every step longer than tiny failed: x is converged to the step limit
+	penaltyI10LBFGSCentralSearchTiny                                               // every step longer than tiny failed to decrease f
 )
+
+// penaltyI10LBFGSCentralAcceptLow ends a Wolfe search with its best trial, which met sufficient
+// decrease though not the curvature condition, when the bracket collapsed
+// or the trials ran out. Its gradient was kept in lowGradient. (When the
+// budget runs out the search ends without a step instead, so that a capped
+// run follows the uncapped run's path up to the cap.)
+func penaltyI10LBFGSCentralAcceptLow(x, d *[10]float64, low *penaltyI10LBFGSCentralLinePoint, lowGradient *[10]float64, calls int, xt, gt *[10]float64) penaltyI10LBFGSCentralLineResult {
+	penaltyI10LBFGSCentralMoveTo(xt, x, low.step, d)
+	*gt = *lowGradient
+	return penaltyI10LBFGSCentralLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: penaltyI10LBFGSCentralSearchAccepted}
+}
 
 // penaltyI10LBFGSCentralMoveTo sets out = x + t·d.
 func penaltyI10LBFGSCentralMoveTo(out, x *[10]float64, t float64, d *[10]float64) {
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
+}
+
+// penaltyI10LBFGSCentralFlatTrial reports whether a failed trial t found f flat along d, to
+// the accuracy the gradient and f allow, so that no decrease can be
+// expected from any step:
+//
+//   - the change f(x + t·d) − f(x) = ft − fx is at most half the
+//     first-order prediction t·∇fᵀd in size: near a minimizer whose
+//     gradient is known only roughly (differences), the true slope along
+//     d is below that accuracy. A wrong gradient makes f rise about as
+//     fast as it predicts a fall, and never passes. This is the ratio of
+//     actual to predicted reduction of trust-region methods (Nocedal &
+//     Wright 2006, eq. 4.4);
+//   - or the prediction itself, |t·∇fᵀd|, is below the rounding unit of
+//     f, u·|f(x)|: no change that small can show in floating point, so x
+//     is a minimizer to working precision (Dennis & Schnabel 1983, §7.2,
+//     relate the gradient test to the precision of f; recalled from
+//     memory).
+func penaltyI10LBFGSCentralFlatTrial(fx, ft, t, slope float64) bool {
+	predicted := penaltyI10LBFGSCentralAbs(t * slope)
+	return penaltyI10LBFGSCentralAbs(ft-fx) <= 0.5*predicted || predicted <= penaltyI10LBFGSCentralUnitRoundoff*penaltyI10LBFGSCentralAbs(fx)
 }
 
 // penaltyI10LBFGSCentralCurvatureMet is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)
@@ -583,7 +673,16 @@ func penaltyI10LBFGSCentralSquareRoot(v float64) float64 {
 // penaltyI10LBFGSCentralClampBetween returns v limited to the interval with ends a and b, in
 // either order.
 func penaltyI10LBFGSCentralClampBetween(v, a, b float64) float64 {
-	return max(min(a, b), min(max(a, b), v))
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
 }
 
 // penaltyI10LBFGSCentralExpandTrial picks a larger trial after current met sufficient decrease

@@ -28,10 +28,13 @@ func TestPenaltyI10LBFGSCentralAllocatesNothing(t *testing.T) {
 	}
 }
 
-// TestPenaltyI10LBFGSCentralRespectsEvaluationCap caps the run below what it needs and checks that the cap is never exceeded and that the run says why it stopped.
+// TestPenaltyI10LBFGSCentralRespectsEvaluationCap caps the run below what it needs (0–63, powers of two, and one short) and checks that the cap is never exceeded and that the run says why it stopped.
 func TestPenaltyI10LBFGSCentralRespectsEvaluationCap(t *testing.T) {
 	needed := PenaltyI10LBFGSCentral(penaltyI10LBFGSCentralTestStart()).Evaluations
-	for cap := 0; cap < needed; cap += 1 + cap/16 {
+	for cap := 0; cap < needed; cap++ {
+		if cap >= 64 && cap&(cap-1) != 0 && cap != needed-1 {
+			continue
+		}
 		limits := PenaltyI10LBFGSCentralDefaultLimits()
 		limits.Evaluations = cap
 		r := PenaltyI10LBFGSCentralWithLimits(penaltyI10LBFGSCentralTestStart(), limits)
@@ -45,7 +48,7 @@ func TestPenaltyI10LBFGSCentralRespectsEvaluationCap(t *testing.T) {
 func BenchmarkPenaltyI10LBFGSCentral(b *testing.B) {
 	var r PenaltyI10LBFGSCentralResult
 	b.ReportAllocs()
-	for b.Loop() {
+	for i := 0; i < b.N; i++ {
 		r = PenaltyI10LBFGSCentral(penaltyI10LBFGSCentralTestStart())
 	}
 	b.ReportMetric(float64(r.Evaluations), "evaluations/op")

@@ -10,18 +10,20 @@ type PenaltyI4BFGSAnalyticStatus uint8
 const (
 	// PenaltyI4BFGSAnalyticGradientSmall: the largest gradient component fell to the gradient limit: converged.
 	PenaltyI4BFGSAnalyticGradientSmall PenaltyI4BFGSAnalyticStatus = iota + 1
-	// PenaltyI4BFGSAnalyticStepTiny: the last step was at most the step limit relative to ‖x‖∞ + 1: converged.
+	// PenaltyI4BFGSAnalyticStepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f while f was flat to the accuracy of the gradient (always so with finite differences): converged.
 	PenaltyI4BFGSAnalyticStepTiny
 	// PenaltyI4BFGSAnalyticOutOfIterations: the iteration limit came first.
 	PenaltyI4BFGSAnalyticOutOfIterations
 	// PenaltyI4BFGSAnalyticOutOfEvaluations: the next objective call would have exceeded the evaluation cap.
 	PenaltyI4BFGSAnalyticOutOfEvaluations
-	// PenaltyI4BFGSAnalyticNoAcceptableStep: no trial of the line search met the step rule within its trials.
+	// PenaltyI4BFGSAnalyticNoAcceptableStep: no trial of the line search met the step rule at a finite point within its trials.
 	PenaltyI4BFGSAnalyticNoAcceptableStep
 	// PenaltyI4BFGSAnalyticNonFiniteStart: x0 or the objective at x0 is NaN or ±Inf.
 	PenaltyI4BFGSAnalyticNonFiniteStart
 	// PenaltyI4BFGSAnalyticNonFiniteGradient: a gradient component became NaN or ±Inf.
 	PenaltyI4BFGSAnalyticNonFiniteGradient
+	// PenaltyI4BFGSAnalyticNoDecrease: no step longer than the step limit decreased f, and f rose about as fast as the analytic gradient said it would fall: the gradient is probably wrong (see the generated gradient test).
+	PenaltyI4BFGSAnalyticNoDecrease
 )
 
 // String describes the status in a few words.
@@ -41,6 +43,8 @@ func (s PenaltyI4BFGSAnalyticStatus) String() string {
 		return "non-finite start"
 	case PenaltyI4BFGSAnalyticNonFiniteGradient:
 		return "non-finite gradient"
+	case PenaltyI4BFGSAnalyticNoDecrease:
+		return "no decrease"
 	default:
 		return "unknown status"
 	}
@@ -63,7 +67,7 @@ type PenaltyI4BFGSAnalyticResult struct {
 // PenaltyI4BFGSAnalyticLimits are the stop limits of one run. Pass them to PenaltyI4BFGSAnalyticWithLimits to change them at run time; PenaltyI4BFGSAnalyticDefaultLimits returns the spec's.
 type PenaltyI4BFGSAnalyticLimits struct {
 	Gradient    float64 // stop when the largest |∂f/∂xᵢ| is at most this
-	Step        float64 // stop when the largest |Δxᵢ| is at most this·(‖x‖∞ + 1)
+	Step        float64 // stop when every |Δxᵢ| is at most this·(|xᵢ| + 1)
 	Iterations  int     // most accepted steps
 	Evaluations int     // hard cap on objective calls, finite differences included; never exceeded
 }
@@ -84,7 +88,7 @@ func PenaltyI4BFGSAnalyticDefaultLimits() PenaltyI4BFGSAnalyticLimits {
 // Step rule wolfe: bracket and zoom until sufficient decrease and the curvature condition hold.
 // Derivative analytic: the user's own gradient function (spec key `gradient`); costs no objective calls.
 // Constants: initial 1.0, c1 0.0001, c2 0.9, at most 40 trials per line search.
-// Default stop: largest gradient component ≤ 1e-08, step ≤ 1e-14·(‖x‖∞ + 1), 5000 iterations, 200000 objective calls.
+// Default stop: largest gradient component ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
 //
 // Worst case: 200000 objective calls (the evaluation cap; the iteration limit alone would allow 200001). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
@@ -121,9 +125,11 @@ const (
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
 //  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged);
+//     steps shorter than the step limit are left to try (converged when
+//     f was flat along d or the gradient is a difference, else no
+//     decrease);
 //  5. move, refresh the gradient, let the direction learn from the step;
-//  6. stop when the step is at most lim.Step·(‖x‖∞ + 1).
+//  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
 //
 // Before every objective call it checks that lim.Evaluations leaves room
 // for it, so the cap is never exceeded. A NaN or ±Inf at the start or in a
@@ -161,7 +167,7 @@ func penaltyI4BFGSAnalyticMinimize(x0 [4]float64, lim PenaltyI4BFGSAnalyticLimit
 			return out
 		}
 		if out.iterations > 0 {
-			if penaltyI4BFGSAnalyticMaxAbs(&s) <= lim.Step*(penaltyI4BFGSAnalyticMaxAbs(&x)+1) {
+			if penaltyI4BFGSAnalyticStepWithin(&s, &x, lim.Step) {
 				out.status = PenaltyI4BFGSAnalyticStepTiny
 				return out
 			}
@@ -173,7 +179,7 @@ func penaltyI4BFGSAnalyticMinimize(x0 [4]float64, lim PenaltyI4BFGSAnalyticLimit
 		}
 		dir.compute(&g, &d)
 		now := penaltyI4BFGSAnalyticDot(&g, &d)
-		if !(now < 0) {
+		if !(now < 0) || !penaltyI4BFGSAnalyticFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
 			dir.compute(&g, &d)
 			now = penaltyI4BFGSAnalyticDot(&g, &d)
@@ -182,7 +188,7 @@ func penaltyI4BFGSAnalyticMinimize(x0 [4]float64, lim PenaltyI4BFGSAnalyticLimit
 		if out.iterations > 0 {
 			first = dir.firstTrial(t, slope, now)
 		}
-		tiny := lim.Step * (penaltyI4BFGSAnalyticMaxAbs(&x) + 1) / penaltyI4BFGSAnalyticMaxAbs(&d) // steps t ≤ tiny pass the step test
+		tiny := penaltyI4BFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
 		found := penaltyI4BFGSAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt)
 		out.evaluations += found.calls
 		switch found.end {
@@ -192,13 +198,27 @@ func penaltyI4BFGSAnalyticMinimize(x0 [4]float64, lim PenaltyI4BFGSAnalyticLimit
 			out.status = PenaltyI4BFGSAnalyticNoAcceptableStep
 			return out
 		case penaltyI4BFGSAnalyticSearchTiny:
-			out.status = PenaltyI4BFGSAnalyticStepTiny
+			// Converged to the step limit when f was flat along d to the
+			// accuracy available (see penaltyI4BFGSAnalyticFlatTrial), and always with finite
+			// differences: their error, not the true slope, then steers d,
+			// so x is stationary to the accuracy of the differences. With
+			// an analytic gradient that f contradicts, it is not.
+			out.status = PenaltyI4BFGSAnalyticNoDecrease
+			if found.flat || penaltyI4BFGSAnalyticDerivativeCost > 0 {
+				out.status = PenaltyI4BFGSAnalyticStepTiny
+			}
+			return out
+		}
+		if !penaltyI4BFGSAnalyticFiniteVec(&xt) {
+			out.status = PenaltyI4BFGSAnalyticNoAcceptableStep // the accepted trial overflowed x
 			return out
 		}
 		if !found.gradient {
 			if out.evaluations+penaltyI4BFGSAnalyticDerivativeCost > lim.Evaluations {
-				out.x, out.f = xt, found.value // keep the better point even without its gradient
-				out.iterations++
+				if found.value < fx { // keep a better point even without its gradient
+					out.x, out.f = xt, found.value
+					out.iterations++
+				}
 				return out
 			}
 			penaltyI4BFGSAnalyticDerivative(&xt, found.value, &gt)
@@ -328,13 +348,14 @@ func penaltyI4BFGSAnalyticDot(a, b *[4]float64) float64 {
 
 // penaltyI4BFGSAnalyticCurvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
 // update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
-// as (sᵀy)² > u·(sᵀs)(yᵀy) with u the unit roundoff, so that the updated
+// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
+// that float32 does not overflow, with u the unit roundoff, so that the updated
 // matrix stays positive definite and well conditioned (Nocedal & Wright
 // 2006, §6.1, condition 6.7; the relative threshold √u·‖s‖‖y‖ is from
 // Dennis & Schnabel 1983, Algorithm A9.4.1, recalled from memory).
 func penaltyI4BFGSAnalyticCurvatureSafe(s, y *[4]float64) bool {
 	sy := penaltyI4BFGSAnalyticDot(s, y)
-	return sy > 0 && sy*sy > penaltyI4BFGSAnalyticUnitRoundoff*penaltyI4BFGSAnalyticDot(s, s)*penaltyI4BFGSAnalyticDot(y, y)
+	return sy > 0 && (sy/penaltyI4BFGSAnalyticDot(s, s))*(sy/penaltyI4BFGSAnalyticDot(y, y)) > penaltyI4BFGSAnalyticUnitRoundoff
 }
 
 // penaltyI4BFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
@@ -354,6 +375,32 @@ func penaltyI4BFGSAnalyticAbs(v float64) float64 {
 		return -v
 	}
 	return v
+}
+
+// penaltyI4BFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func penaltyI4BFGSAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
+	for i := range s {
+		if !(penaltyI4BFGSAnalyticAbs(s[i]) <= tol*(penaltyI4BFGSAnalyticAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
+}
+
+// penaltyI4BFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
+// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+func penaltyI4BFGSAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
+	tiny := float64(-1)
+	for i := range x {
+		if d[i] != 0 {
+			if t := tol * (penaltyI4BFGSAnalyticAbs(x[i]) + 1) / penaltyI4BFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+	}
+	return tiny
 }
 
 // penaltyI4BFGSAnalyticLineSearch finds a step meeting the Wolfe conditions
@@ -383,22 +430,18 @@ func penaltyI4BFGSAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64, s
 	var high penaltyI4BFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                     // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	flat := false // whether a trial failing sufficient decrease found f flat
 	t := first
 	calls := 0
 	for trial := 0; trial < penaltyI4BFGSAnalyticStepTrials; trial++ {
 		if bracketed && penaltyI4BFGSAnalyticAbs(high.step-low.step) <= tiny {
 			// The bracket is below the step limit: take low when it
-			// decreased f; else x is converged to the step limit, unless
-			// f was not finite there.
+			// decreased f; else no step decreased f, unless f was not
+			// finite there.
 			if low.step == 0 {
-				return penaltyI4BFGSAnalyticLineResult{calls: calls, end: penaltyI4BFGSAnalyticTinyOrExhausted(penaltyI4BFGSAnalyticFinite(high.value))}
+				return penaltyI4BFGSAnalyticLineResult{calls: calls, flat: flat, end: penaltyI4BFGSAnalyticTinyOrExhausted(penaltyI4BFGSAnalyticFinite(high.value))}
 			}
-			penaltyI4BFGSAnalyticMoveTo(xt, x, low.step, d)
-			*gt = lowGradient
-			return penaltyI4BFGSAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: penaltyI4BFGSAnalyticSearchAccepted}
-		}
-		if !bracketed && t <= tiny {
-			return penaltyI4BFGSAnalyticLineResult{calls: calls, end: penaltyI4BFGSAnalyticSearchTiny}
+			return penaltyI4BFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
 		}
 		if calls >= budget {
 			return penaltyI4BFGSAnalyticLineResult{calls: calls, end: penaltyI4BFGSAnalyticSearchOutOfBudget}
@@ -409,6 +452,7 @@ func penaltyI4BFGSAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64, s
 		previous := low
 		if !penaltyI4BFGSAnalyticFinite(current.value) || current.value > fx+penaltyI4BFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
+			flat = flat || penaltyI4BFGSAnalyticFinite(current.value) && penaltyI4BFGSAnalyticFlatTrial(fx, current.value, t, slope)
 		} else {
 			if calls+penaltyI4BFGSAnalyticDerivativeCost > budget {
 				return penaltyI4BFGSAnalyticLineResult{calls: calls, end: penaltyI4BFGSAnalyticSearchOutOfBudget}
@@ -435,6 +479,9 @@ func penaltyI4BFGSAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64, s
 			t = penaltyI4BFGSAnalyticExpandTrial(&previous, &current)
 		}
 	}
+	if low.step > 0 {
+		return penaltyI4BFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+	}
 	return penaltyI4BFGSAnalyticLineResult{calls: calls, end: penaltyI4BFGSAnalyticSearchExhausted}
 }
 
@@ -444,6 +491,7 @@ type penaltyI4BFGSAnalyticLineResult struct {
 	value    float64                        // f(x + t·d)
 	calls    int                            // objective calls spent, finite differences included
 	gradient bool                           // whether gt holds ∇f(x + t·d) already
+	flat     bool                           // whether a failed trial found f flat along d (see penaltyI4BFGSAnalyticFlatTrial)
 	end      penaltyI4BFGSAnalyticSearchEnd // how the search ended
 }
 
@@ -457,10 +505,10 @@ type penaltyI4BFGSAnalyticLinePoint struct {
 	hasSlope           bool
 }
 
-// penaltyI4BFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: x is
-// converged to the step limit when the last failure was a finite increase
-// of f, but a non-finite value says nothing about f near x, so the search
-// has simply failed.
+// penaltyI4BFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: no
+// decrease was found when the last failure was a finite value, but a
+// non-finite value says nothing about f near x, so the search has simply
+// failed.
 func penaltyI4BFGSAnalyticTinyOrExhausted(lastFinite bool) penaltyI4BFGSAnalyticSearchEnd {
 	if lastFinite {
 		return penaltyI4BFGSAnalyticSearchTiny
@@ -472,14 +520,46 @@ const (
 	penaltyI4BFGSAnalyticSearchAccepted    penaltyI4BFGSAnalyticSearchEnd = iota // a step met the rule
 	penaltyI4BFGSAnalyticSearchExhausted                                         // penaltyI4BFGSAnalyticStepTrials trials met none
 	penaltyI4BFGSAnalyticSearchOutOfBudget                                       // the evaluation cap came first
-	penaltyI4BFGSAnalyticSearchTiny                                              // every step longer than tiny failed: x is converged to the step limit
+	penaltyI4BFGSAnalyticSearchTiny                                              // every step longer than tiny failed to decrease f
 )
+
+// penaltyI4BFGSAnalyticAcceptLow ends a Wolfe search with its best trial, which met sufficient
+// decrease though not the curvature condition, when the bracket collapsed
+// or the trials ran out. Its gradient was kept in lowGradient. (When the
+// budget runs out the search ends without a step instead, so that a capped
+// run follows the uncapped run's path up to the cap.)
+func penaltyI4BFGSAnalyticAcceptLow(x, d *[4]float64, low *penaltyI4BFGSAnalyticLinePoint, lowGradient *[4]float64, calls int, xt, gt *[4]float64) penaltyI4BFGSAnalyticLineResult {
+	penaltyI4BFGSAnalyticMoveTo(xt, x, low.step, d)
+	*gt = *lowGradient
+	return penaltyI4BFGSAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: penaltyI4BFGSAnalyticSearchAccepted}
+}
 
 // penaltyI4BFGSAnalyticMoveTo sets out = x + t·d.
 func penaltyI4BFGSAnalyticMoveTo(out, x *[4]float64, t float64, d *[4]float64) {
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
+}
+
+// penaltyI4BFGSAnalyticFlatTrial reports whether a failed trial t found f flat along d, to
+// the accuracy the gradient and f allow, so that no decrease can be
+// expected from any step:
+//
+//   - the change f(x + t·d) − f(x) = ft − fx is at most half the
+//     first-order prediction t·∇fᵀd in size: near a minimizer whose
+//     gradient is known only roughly (differences), the true slope along
+//     d is below that accuracy. A wrong gradient makes f rise about as
+//     fast as it predicts a fall, and never passes. This is the ratio of
+//     actual to predicted reduction of trust-region methods (Nocedal &
+//     Wright 2006, eq. 4.4);
+//   - or the prediction itself, |t·∇fᵀd|, is below the rounding unit of
+//     f, u·|f(x)|: no change that small can show in floating point, so x
+//     is a minimizer to working precision (Dennis & Schnabel 1983, §7.2,
+//     relate the gradient test to the precision of f; recalled from
+//     memory).
+func penaltyI4BFGSAnalyticFlatTrial(fx, ft, t, slope float64) bool {
+	predicted := penaltyI4BFGSAnalyticAbs(t * slope)
+	return penaltyI4BFGSAnalyticAbs(ft-fx) <= 0.5*predicted || predicted <= penaltyI4BFGSAnalyticUnitRoundoff*penaltyI4BFGSAnalyticAbs(fx)
 }
 
 // penaltyI4BFGSAnalyticCurvatureMet is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)
@@ -537,7 +617,16 @@ func penaltyI4BFGSAnalyticSquareRoot(v float64) float64 {
 // penaltyI4BFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
 // either order.
 func penaltyI4BFGSAnalyticClampBetween(v, a, b float64) float64 {
-	return max(min(a, b), min(max(a, b), v))
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
 }
 
 // penaltyI4BFGSAnalyticExpandTrial picks a larger trial after current met sufficient decrease

@@ -28,10 +28,13 @@ func TestPenaltyI4BFGSCentralAllocatesNothing(t *testing.T) {
 	}
 }
 
-// TestPenaltyI4BFGSCentralRespectsEvaluationCap caps the run below what it needs and checks that the cap is never exceeded and that the run says why it stopped.
+// TestPenaltyI4BFGSCentralRespectsEvaluationCap caps the run below what it needs (0–63, powers of two, and one short) and checks that the cap is never exceeded and that the run says why it stopped.
 func TestPenaltyI4BFGSCentralRespectsEvaluationCap(t *testing.T) {
 	needed := PenaltyI4BFGSCentral(penaltyI4BFGSCentralTestStart()).Evaluations
-	for cap := 0; cap < needed; cap += 1 + cap/16 {
+	for cap := 0; cap < needed; cap++ {
+		if cap >= 64 && cap&(cap-1) != 0 && cap != needed-1 {
+			continue
+		}
 		limits := PenaltyI4BFGSCentralDefaultLimits()
 		limits.Evaluations = cap
 		r := PenaltyI4BFGSCentralWithLimits(penaltyI4BFGSCentralTestStart(), limits)
@@ -45,7 +48,7 @@ func TestPenaltyI4BFGSCentralRespectsEvaluationCap(t *testing.T) {
 func BenchmarkPenaltyI4BFGSCentral(b *testing.B) {
 	var r PenaltyI4BFGSCentralResult
 	b.ReportAllocs()
-	for b.Loop() {
+	for i := 0; i < b.N; i++ {
 		r = PenaltyI4BFGSCentral(penaltyI4BFGSCentralTestStart())
 	}
 	b.ReportMetric(float64(r.Evaluations), "evaluations/op")

@@ -10,18 +10,20 @@ type PenaltyI4CGCentralStatus uint8
 const (
 	// PenaltyI4CGCentralGradientSmall: the largest gradient component fell to the gradient limit: converged.
 	PenaltyI4CGCentralGradientSmall PenaltyI4CGCentralStatus = iota + 1
-	// PenaltyI4CGCentralStepTiny: the last step was at most the step limit relative to ‖x‖∞ + 1: converged.
+	// PenaltyI4CGCentralStepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f while f was flat to the accuracy of the gradient (always so with finite differences): converged.
 	PenaltyI4CGCentralStepTiny
 	// PenaltyI4CGCentralOutOfIterations: the iteration limit came first.
 	PenaltyI4CGCentralOutOfIterations
 	// PenaltyI4CGCentralOutOfEvaluations: the next objective call would have exceeded the evaluation cap.
 	PenaltyI4CGCentralOutOfEvaluations
-	// PenaltyI4CGCentralNoAcceptableStep: no trial of the line search met the step rule within its trials.
+	// PenaltyI4CGCentralNoAcceptableStep: no trial of the line search met the step rule at a finite point within its trials.
 	PenaltyI4CGCentralNoAcceptableStep
 	// PenaltyI4CGCentralNonFiniteStart: x0 or the objective at x0 is NaN or ±Inf.
 	PenaltyI4CGCentralNonFiniteStart
 	// PenaltyI4CGCentralNonFiniteGradient: a gradient component became NaN or ±Inf.
 	PenaltyI4CGCentralNonFiniteGradient
+	// PenaltyI4CGCentralNoDecrease: no step longer than the step limit decreased f, and f rose about as fast as the analytic gradient said it would fall: the gradient is probably wrong (see the generated gradient test).
+	PenaltyI4CGCentralNoDecrease
 )
 
 // String describes the status in a few words.
@@ -41,6 +43,8 @@ func (s PenaltyI4CGCentralStatus) String() string {
 		return "non-finite start"
 	case PenaltyI4CGCentralNonFiniteGradient:
 		return "non-finite gradient"
+	case PenaltyI4CGCentralNoDecrease:
+		return "no decrease"
 	default:
 		return "unknown status"
 	}
@@ -63,7 +67,7 @@ type PenaltyI4CGCentralResult struct {
 // PenaltyI4CGCentralLimits are the stop limits of one run. Pass them to PenaltyI4CGCentralWithLimits to change them at run time; PenaltyI4CGCentralDefaultLimits returns the spec's.
 type PenaltyI4CGCentralLimits struct {
 	Gradient    float64 // stop when the largest |∂f/∂xᵢ| is at most this
-	Step        float64 // stop when the largest |Δxᵢ| is at most this·(‖x‖∞ + 1)
+	Step        float64 // stop when every |Δxᵢ| is at most this·(|xᵢ| + 1)
 	Iterations  int     // most accepted steps
 	Evaluations int     // hard cap on objective calls, finite differences included; never exceeded
 }
@@ -84,7 +88,7 @@ func PenaltyI4CGCentralDefaultLimits() PenaltyI4CGCentralLimits {
 // Step rule strong-wolfe: bracket and zoom until sufficient decrease and the strong curvature condition hold.
 // Derivative central: central differences: 2·dim objective calls per gradient, error O(u^(2/3)).
 // Constants: initial 1.0, c1 0.0001, c2 0.1, at most 40 trials per line search.
-// Default stop: largest gradient component ≤ 1e-08, step ≤ 1e-14·(‖x‖∞ + 1), 5000 iterations, 200000 objective calls.
+// Default stop: largest gradient component ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
 //
 // Worst case: 200000 objective calls, 8 of them per gradient (the evaluation cap; the iteration limit alone would allow 1800009). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
@@ -106,12 +110,13 @@ func PenaltyI4CGCentralWithLimits(x0 [4]float64, limits PenaltyI4CGCentralLimits
 
 // Tunables of PenaltyI4CGCentral from mgh.toml; the kernels below read them.
 const (
-	penaltyI4CGCentralStepInitial    = 1.0                   // step.initial
-	penaltyI4CGCentralStepDecrease   = 0.0001                // step.decrease (c1)
-	penaltyI4CGCentralStepCurvature  = 0.1                   // step.curvature (c2)
-	penaltyI4CGCentralStepTrials     = 40                    // step.trials
-	penaltyI4CGCentralDerivativeCost = 8                     // objective calls per gradient
-	penaltyI4CGCentralCentralScale   = 4.806217383937352e-06 // ∛u, central-difference step scale (Nocedal & Wright 2006, §8.1)
+	penaltyI4CGCentralStepInitial    = 1.0                    // step.initial
+	penaltyI4CGCentralStepDecrease   = 0.0001                 // step.decrease (c1)
+	penaltyI4CGCentralStepCurvature  = 0.1                    // step.curvature (c2)
+	penaltyI4CGCentralStepTrials     = 40                     // step.trials
+	penaltyI4CGCentralDerivativeCost = 8                      // objective calls per gradient
+	penaltyI4CGCentralUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
+	penaltyI4CGCentralCentralScale   = 4.806217383937352e-06  // ∛u, central-difference step scale (Nocedal & Wright 2006, §8.1)
 )
 
 // penaltyI4CGCentralMinimize runs the descent loop from x0 within lim:
@@ -121,9 +126,11 @@ const (
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
 //  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged);
+//     steps shorter than the step limit are left to try (converged when
+//     f was flat along d or the gradient is a difference, else no
+//     decrease);
 //  5. move, refresh the gradient, let the direction learn from the step;
-//  6. stop when the step is at most lim.Step·(‖x‖∞ + 1).
+//  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
 //
 // Before every objective call it checks that lim.Evaluations leaves room
 // for it, so the cap is never exceeded. A NaN or ±Inf at the start or in a
@@ -161,7 +168,7 @@ func penaltyI4CGCentralMinimize(x0 [4]float64, lim PenaltyI4CGCentralLimits) pen
 			return out
 		}
 		if out.iterations > 0 {
-			if penaltyI4CGCentralMaxAbs(&s) <= lim.Step*(penaltyI4CGCentralMaxAbs(&x)+1) {
+			if penaltyI4CGCentralStepWithin(&s, &x, lim.Step) {
 				out.status = PenaltyI4CGCentralStepTiny
 				return out
 			}
@@ -173,7 +180,7 @@ func penaltyI4CGCentralMinimize(x0 [4]float64, lim PenaltyI4CGCentralLimits) pen
 		}
 		dir.compute(&g, &d)
 		now := penaltyI4CGCentralDot(&g, &d)
-		if !(now < 0) {
+		if !(now < 0) || !penaltyI4CGCentralFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
 			dir.compute(&g, &d)
 			now = penaltyI4CGCentralDot(&g, &d)
@@ -182,7 +189,7 @@ func penaltyI4CGCentralMinimize(x0 [4]float64, lim PenaltyI4CGCentralLimits) pen
 		if out.iterations > 0 {
 			first = dir.firstTrial(t, slope, now)
 		}
-		tiny := lim.Step * (penaltyI4CGCentralMaxAbs(&x) + 1) / penaltyI4CGCentralMaxAbs(&d) // steps t ≤ tiny pass the step test
+		tiny := penaltyI4CGCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
 		found := penaltyI4CGCentralLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt)
 		out.evaluations += found.calls
 		switch found.end {
@@ -192,13 +199,27 @@ func penaltyI4CGCentralMinimize(x0 [4]float64, lim PenaltyI4CGCentralLimits) pen
 			out.status = PenaltyI4CGCentralNoAcceptableStep
 			return out
 		case penaltyI4CGCentralSearchTiny:
-			out.status = PenaltyI4CGCentralStepTiny
+			// Converged to the step limit when f was flat along d to the
+			// accuracy available (see penaltyI4CGCentralFlatTrial), and always with finite
+			// differences: their error, not the true slope, then steers d,
+			// so x is stationary to the accuracy of the differences. With
+			// an analytic gradient that f contradicts, it is not.
+			out.status = PenaltyI4CGCentralNoDecrease
+			if found.flat || penaltyI4CGCentralDerivativeCost > 0 {
+				out.status = PenaltyI4CGCentralStepTiny
+			}
+			return out
+		}
+		if !penaltyI4CGCentralFiniteVec(&xt) {
+			out.status = PenaltyI4CGCentralNoAcceptableStep // the accepted trial overflowed x
 			return out
 		}
 		if !found.gradient {
 			if out.evaluations+penaltyI4CGCentralDerivativeCost > lim.Evaluations {
-				out.x, out.f = xt, found.value // keep the better point even without its gradient
-				out.iterations++
+				if found.value < fx { // keep a better point even without its gradient
+					out.x, out.f = xt, found.value
+					out.iterations++
+				}
 				return out
 			}
 			penaltyI4CGCentralDerivative(&xt, found.value, &gt)
@@ -253,7 +274,7 @@ func penaltyI4CGCentralDerivative(x *[4]float64, fx float64, g *[4]float64) {
 	probe := *x
 	for i := range probe {
 		xi := probe[i]
-		h := penaltyI4CGCentralCentralScale * max(1, penaltyI4CGCentralAbs(xi)) // N&W §8.1: h = ∛u·max(1,|x_i|)
+		h := penaltyI4CGCentralCentralScale * penaltyI4CGCentralLarger(1, penaltyI4CGCentralAbs(xi)) // N&W §8.1: h = ∛u·max(1,|x_i|)
 		up := xi + h
 		down := xi - h
 		probe[i] = up
@@ -263,6 +284,16 @@ func penaltyI4CGCentralDerivative(x *[4]float64, fx float64, g *[4]float64) {
 		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
 		probe[i] = xi
 	}
+}
+
+// penaltyI4CGCentralLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func penaltyI4CGCentralLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
 }
 
 // penaltyI4CGCentralAbs returns |v|.
@@ -303,7 +334,7 @@ func (s *penaltyI4CGCentralDirection) reset() {
 func (s *penaltyI4CGCentralDirection) compute(g, d *[4]float64) {
 	var beta float64
 	if s.steps > 0 && s.steps < 4 && s.squared > 0 {
-		beta = max(penaltyI4CGCentralDot(g, &s.change)/s.squared, 0) // N&W eq. 5.45 (PR+)
+		beta = penaltyI4CGCentralLarger(penaltyI4CGCentralDot(g, &s.change)/s.squared, 0) // N&W eq. 5.45 (PR+)
 	}
 	for i := range d {
 		d[i] = -g[i] + beta*s.previous[i] // N&W eq. 5.44
@@ -356,6 +387,32 @@ func penaltyI4CGCentralMaxAbs(x *[4]float64) float64 {
 	return m
 }
 
+// penaltyI4CGCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func penaltyI4CGCentralStepWithin(s, x *[4]float64, tol float64) bool {
+	for i := range s {
+		if !(penaltyI4CGCentralAbs(s[i]) <= tol*(penaltyI4CGCentralAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
+}
+
+// penaltyI4CGCentralTinyStep returns the longest t for which the step t·d from x passes the
+// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+func penaltyI4CGCentralTinyStep(x, d *[4]float64, tol float64) float64 {
+	tiny := float64(-1)
+	for i := range x {
+		if d[i] != 0 {
+			if t := tol * (penaltyI4CGCentralAbs(x[i]) + 1) / penaltyI4CGCentralAbs(d[i]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+	}
+	return tiny
+}
+
 // penaltyI4CGCentralLineSearch finds a step meeting the Wolfe conditions
 //
 //	f(x + t·d) ≤ f(x) + c1·t·∇f(x)ᵀd                (sufficient decrease)
@@ -383,22 +440,18 @@ func penaltyI4CGCentralLineSearch(x *[4]float64, fx float64, d *[4]float64, slop
 	var high penaltyI4CGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                  // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	flat := false // whether a trial failing sufficient decrease found f flat
 	t := first
 	calls := 0
 	for trial := 0; trial < penaltyI4CGCentralStepTrials; trial++ {
 		if bracketed && penaltyI4CGCentralAbs(high.step-low.step) <= tiny {
 			// The bracket is below the step limit: take low when it
-			// decreased f; else x is converged to the step limit, unless
-			// f was not finite there.
+			// decreased f; else no step decreased f, unless f was not
+			// finite there.
 			if low.step == 0 {
-				return penaltyI4CGCentralLineResult{calls: calls, end: penaltyI4CGCentralTinyOrExhausted(penaltyI4CGCentralFinite(high.value))}
+				return penaltyI4CGCentralLineResult{calls: calls, flat: flat, end: penaltyI4CGCentralTinyOrExhausted(penaltyI4CGCentralFinite(high.value))}
 			}
-			penaltyI4CGCentralMoveTo(xt, x, low.step, d)
-			*gt = lowGradient
-			return penaltyI4CGCentralLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: penaltyI4CGCentralSearchAccepted}
-		}
-		if !bracketed && t <= tiny {
-			return penaltyI4CGCentralLineResult{calls: calls, end: penaltyI4CGCentralSearchTiny}
+			return penaltyI4CGCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
 		}
 		if calls >= budget {
 			return penaltyI4CGCentralLineResult{calls: calls, end: penaltyI4CGCentralSearchOutOfBudget}
@@ -409,6 +462,7 @@ func penaltyI4CGCentralLineSearch(x *[4]float64, fx float64, d *[4]float64, slop
 		previous := low
 		if !penaltyI4CGCentralFinite(current.value) || current.value > fx+penaltyI4CGCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
+			flat = flat || penaltyI4CGCentralFinite(current.value) && penaltyI4CGCentralFlatTrial(fx, current.value, t, slope)
 		} else {
 			if calls+penaltyI4CGCentralDerivativeCost > budget {
 				return penaltyI4CGCentralLineResult{calls: calls, end: penaltyI4CGCentralSearchOutOfBudget}
@@ -435,6 +489,9 @@ func penaltyI4CGCentralLineSearch(x *[4]float64, fx float64, d *[4]float64, slop
 			t = penaltyI4CGCentralExpandTrial(&previous, &current)
 		}
 	}
+	if low.step > 0 {
+		return penaltyI4CGCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+	}
 	return penaltyI4CGCentralLineResult{calls: calls, end: penaltyI4CGCentralSearchExhausted}
 }
 
@@ -444,6 +501,7 @@ type penaltyI4CGCentralLineResult struct {
 	value    float64                     // f(x + t·d)
 	calls    int                         // objective calls spent, finite differences included
 	gradient bool                        // whether gt holds ∇f(x + t·d) already
+	flat     bool                        // whether a failed trial found f flat along d (see penaltyI4CGCentralFlatTrial)
 	end      penaltyI4CGCentralSearchEnd // how the search ended
 }
 
@@ -457,10 +515,10 @@ type penaltyI4CGCentralLinePoint struct {
 	hasSlope           bool
 }
 
-// penaltyI4CGCentralTinyOrExhausted ends a search that has run below the step limit: x is
-// converged to the step limit when the last failure was a finite increase
-// of f, but a non-finite value says nothing about f near x, so the search
-// has simply failed.
+// penaltyI4CGCentralTinyOrExhausted ends a search that has run below the step limit: no
+// decrease was found when the last failure was a finite value, but a
+// non-finite value says nothing about f near x, so the search has simply
+// failed.
 func penaltyI4CGCentralTinyOrExhausted(lastFinite bool) penaltyI4CGCentralSearchEnd {
 	if lastFinite {
 		return penaltyI4CGCentralSearchTiny
@@ -472,14 +530,46 @@ const (
 	penaltyI4CGCentralSearchAccepted    penaltyI4CGCentralSearchEnd = iota // a step met the rule
 	penaltyI4CGCentralSearchExhausted                                      // penaltyI4CGCentralStepTrials trials met none
 	penaltyI4CGCentralSearchOutOfBudget                                    // the evaluation cap came first
-	penaltyI4CGCentralSearchTiny                                           // every step longer than tiny failed: x is converged to the step limit
+	penaltyI4CGCentralSearchTiny                                           // every step longer than tiny failed to decrease f
 )
+
+// penaltyI4CGCentralAcceptLow ends a Wolfe search with its best trial, which met sufficient
+// decrease though not the curvature condition, when the bracket collapsed
+// or the trials ran out. Its gradient was kept in lowGradient. (When the
+// budget runs out the search ends without a step instead, so that a capped
+// run follows the uncapped run's path up to the cap.)
+func penaltyI4CGCentralAcceptLow(x, d *[4]float64, low *penaltyI4CGCentralLinePoint, lowGradient *[4]float64, calls int, xt, gt *[4]float64) penaltyI4CGCentralLineResult {
+	penaltyI4CGCentralMoveTo(xt, x, low.step, d)
+	*gt = *lowGradient
+	return penaltyI4CGCentralLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: penaltyI4CGCentralSearchAccepted}
+}
 
 // penaltyI4CGCentralMoveTo sets out = x + t·d.
 func penaltyI4CGCentralMoveTo(out, x *[4]float64, t float64, d *[4]float64) {
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
+}
+
+// penaltyI4CGCentralFlatTrial reports whether a failed trial t found f flat along d, to
+// the accuracy the gradient and f allow, so that no decrease can be
+// expected from any step:
+//
+//   - the change f(x + t·d) − f(x) = ft − fx is at most half the
+//     first-order prediction t·∇fᵀd in size: near a minimizer whose
+//     gradient is known only roughly (differences), the true slope along
+//     d is below that accuracy. A wrong gradient makes f rise about as
+//     fast as it predicts a fall, and never passes. This is the ratio of
+//     actual to predicted reduction of trust-region methods (Nocedal &
+//     Wright 2006, eq. 4.4);
+//   - or the prediction itself, |t·∇fᵀd|, is below the rounding unit of
+//     f, u·|f(x)|: no change that small can show in floating point, so x
+//     is a minimizer to working precision (Dennis & Schnabel 1983, §7.2,
+//     relate the gradient test to the precision of f; recalled from
+//     memory).
+func penaltyI4CGCentralFlatTrial(fx, ft, t, slope float64) bool {
+	predicted := penaltyI4CGCentralAbs(t * slope)
+	return penaltyI4CGCentralAbs(ft-fx) <= 0.5*predicted || predicted <= penaltyI4CGCentralUnitRoundoff*penaltyI4CGCentralAbs(fx)
 }
 
 // penaltyI4CGCentralCurvatureMet is the strong Wolfe curvature condition
@@ -537,7 +627,16 @@ func penaltyI4CGCentralSquareRoot(v float64) float64 {
 // penaltyI4CGCentralClampBetween returns v limited to the interval with ends a and b, in
 // either order.
 func penaltyI4CGCentralClampBetween(v, a, b float64) float64 {
-	return max(min(a, b), min(max(a, b), v))
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
 }
 
 // penaltyI4CGCentralExpandTrial picks a larger trial after current met sufficient decrease

@@ -28,10 +28,13 @@ func TestPenaltyI4CGCentralAllocatesNothing(t *testing.T) {
 	}
 }
 
-// TestPenaltyI4CGCentralRespectsEvaluationCap caps the run below what it needs and checks that the cap is never exceeded and that the run says why it stopped.
+// TestPenaltyI4CGCentralRespectsEvaluationCap caps the run below what it needs (0–63, powers of two, and one short) and checks that the cap is never exceeded and that the run says why it stopped.
 func TestPenaltyI4CGCentralRespectsEvaluationCap(t *testing.T) {
 	needed := PenaltyI4CGCentral(penaltyI4CGCentralTestStart()).Evaluations
-	for cap := 0; cap < needed; cap += 1 + cap/16 {
+	for cap := 0; cap < needed; cap++ {
+		if cap >= 64 && cap&(cap-1) != 0 && cap != needed-1 {
+			continue
+		}
 		limits := PenaltyI4CGCentralDefaultLimits()
 		limits.Evaluations = cap
 		r := PenaltyI4CGCentralWithLimits(penaltyI4CGCentralTestStart(), limits)
@@ -45,7 +48,7 @@ func TestPenaltyI4CGCentralRespectsEvaluationCap(t *testing.T) {
 func BenchmarkPenaltyI4CGCentral(b *testing.B) {
 	var r PenaltyI4CGCentralResult
 	b.ReportAllocs()
-	for b.Loop() {
+	for i := 0; i < b.N; i++ {
 		r = PenaltyI4CGCentral(penaltyI4CGCentralTestStart())
 	}
 	b.ReportMetric(float64(r.Evaluations), "evaluations/op")

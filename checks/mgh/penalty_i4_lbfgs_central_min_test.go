@@ -28,10 +28,13 @@ func TestPenaltyI4LBFGSCentralAllocatesNothing(t *testing.T) {
 	}
 }
 
-// TestPenaltyI4LBFGSCentralRespectsEvaluationCap caps the run below what it needs and checks that the cap is never exceeded and that the run says why it stopped.
+// TestPenaltyI4LBFGSCentralRespectsEvaluationCap caps the run below what it needs (0–63, powers of two, and one short) and checks that the cap is never exceeded and that the run says why it stopped.
 func TestPenaltyI4LBFGSCentralRespectsEvaluationCap(t *testing.T) {
 	needed := PenaltyI4LBFGSCentral(penaltyI4LBFGSCentralTestStart()).Evaluations
-	for cap := 0; cap < needed; cap += 1 + cap/16 {
+	for cap := 0; cap < needed; cap++ {
+		if cap >= 64 && cap&(cap-1) != 0 && cap != needed-1 {
+			continue
+		}
 		limits := PenaltyI4LBFGSCentralDefaultLimits()
 		limits.Evaluations = cap
 		r := PenaltyI4LBFGSCentralWithLimits(penaltyI4LBFGSCentralTestStart(), limits)
@@ -45,7 +48,7 @@ func TestPenaltyI4LBFGSCentralRespectsEvaluationCap(t *testing.T) {
 func BenchmarkPenaltyI4LBFGSCentral(b *testing.B) {
 	var r PenaltyI4LBFGSCentralResult
 	b.ReportAllocs()
-	for b.Loop() {
+	for i := 0; i < b.N; i++ {
 		r = PenaltyI4LBFGSCentral(penaltyI4LBFGSCentralTestStart())
 	}
 	b.ReportMetric(float64(r.Evaluations), "evaluations/op")

@@ -28,10 +28,13 @@ func TestPenaltyII10LBFGSCentralAllocatesNothing(t *testing.T) {
 	}
 }
 
-// TestPenaltyII10LBFGSCentralRespectsEvaluationCap caps the run below what it needs and checks that the cap is never exceeded and that the run says why it stopped.
+// TestPenaltyII10LBFGSCentralRespectsEvaluationCap caps the run below what it needs (0–63, powers of two, and one short) and checks that the cap is never exceeded and that the run says why it stopped.
 func TestPenaltyII10LBFGSCentralRespectsEvaluationCap(t *testing.T) {
 	needed := PenaltyII10LBFGSCentral(penaltyII10LBFGSCentralTestStart()).Evaluations
-	for cap := 0; cap < needed; cap += 1 + cap/16 {
+	for cap := 0; cap < needed; cap++ {
+		if cap >= 64 && cap&(cap-1) != 0 && cap != needed-1 {
+			continue
+		}
 		limits := PenaltyII10LBFGSCentralDefaultLimits()
 		limits.Evaluations = cap
 		r := PenaltyII10LBFGSCentralWithLimits(penaltyII10LBFGSCentralTestStart(), limits)
@@ -45,7 +48,7 @@ func TestPenaltyII10LBFGSCentralRespectsEvaluationCap(t *testing.T) {
 func BenchmarkPenaltyII10LBFGSCentral(b *testing.B) {
 	var r PenaltyII10LBFGSCentralResult
 	b.ReportAllocs()
-	for b.Loop() {
+	for i := 0; i < b.N; i++ {
 		r = PenaltyII10LBFGSCentral(penaltyII10LBFGSCentralTestStart())
 	}
 	b.ReportMetric(float64(r.Evaluations), "evaluations/op")

@@ -28,10 +28,13 @@ func TestPenaltyII4BFGSCentralAllocatesNothing(t *testing.T) {
 	}
 }
 
-// TestPenaltyII4BFGSCentralRespectsEvaluationCap caps the run below what it needs and checks that the cap is never exceeded and that the run says why it stopped.
+// TestPenaltyII4BFGSCentralRespectsEvaluationCap caps the run below what it needs (0–63, powers of two, and one short) and checks that the cap is never exceeded and that the run says why it stopped.
 func TestPenaltyII4BFGSCentralRespectsEvaluationCap(t *testing.T) {
 	needed := PenaltyII4BFGSCentral(penaltyII4BFGSCentralTestStart()).Evaluations
-	for cap := 0; cap < needed; cap += 1 + cap/16 {
+	for cap := 0; cap < needed; cap++ {
+		if cap >= 64 && cap&(cap-1) != 0 && cap != needed-1 {
+			continue
+		}
 		limits := PenaltyII4BFGSCentralDefaultLimits()
 		limits.Evaluations = cap
 		r := PenaltyII4BFGSCentralWithLimits(penaltyII4BFGSCentralTestStart(), limits)
@@ -45,7 +48,7 @@ func TestPenaltyII4BFGSCentralRespectsEvaluationCap(t *testing.T) {
 func BenchmarkPenaltyII4BFGSCentral(b *testing.B) {
 	var r PenaltyII4BFGSCentralResult
 	b.ReportAllocs()
-	for b.Loop() {
+	for i := 0; i < b.N; i++ {
 		r = PenaltyII4BFGSCentral(penaltyII4BFGSCentralTestStart())
 	}
 	b.ReportMetric(float64(r.Evaluations), "evaluations/op")

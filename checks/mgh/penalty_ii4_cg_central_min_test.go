@@ -28,10 +28,13 @@ func TestPenaltyII4CGCentralAllocatesNothing(t *testing.T) {
 	}
 }
 
-// TestPenaltyII4CGCentralRespectsEvaluationCap caps the run below what it needs and checks that the cap is never exceeded and that the run says why it stopped.
+// TestPenaltyII4CGCentralRespectsEvaluationCap caps the run below what it needs (0–63, powers of two, and one short) and checks that the cap is never exceeded and that the run says why it stopped.
 func TestPenaltyII4CGCentralRespectsEvaluationCap(t *testing.T) {
 	needed := PenaltyII4CGCentral(penaltyII4CGCentralTestStart()).Evaluations
-	for cap := 0; cap < needed; cap += 1 + cap/16 {
+	for cap := 0; cap < needed; cap++ {
+		if cap >= 64 && cap&(cap-1) != 0 && cap != needed-1 {
+			continue
+		}
 		limits := PenaltyII4CGCentralDefaultLimits()
 		limits.Evaluations = cap
 		r := PenaltyII4CGCentralWithLimits(penaltyII4CGCentralTestStart(), limits)
@@ -45,7 +48,7 @@ func TestPenaltyII4CGCentralRespectsEvaluationCap(t *testing.T) {
 func BenchmarkPenaltyII4CGCentral(b *testing.B) {
 	var r PenaltyII4CGCentralResult
 	b.ReportAllocs()
-	for b.Loop() {
+	for i := 0; i < b.N; i++ {
 		r = PenaltyII4CGCentral(penaltyII4CGCentralTestStart())
 	}
 	b.ReportMetric(float64(r.Evaluations), "evaluations/op")

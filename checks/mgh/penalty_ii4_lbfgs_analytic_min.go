@@ -10,18 +10,20 @@ type PenaltyII4LBFGSAnalyticStatus uint8
 const (
 	// PenaltyII4LBFGSAnalyticGradientSmall: the largest gradient component fell to the gradient limit: converged.
 	PenaltyII4LBFGSAnalyticGradientSmall PenaltyII4LBFGSAnalyticStatus = iota + 1
-	// PenaltyII4LBFGSAnalyticStepTiny: the last step was at most the step limit relative to ‖x‖∞ + 1: converged.
+	// PenaltyII4LBFGSAnalyticStepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f while f was flat to the accuracy of the gradient (always so with finite differences): converged.
 	PenaltyII4LBFGSAnalyticStepTiny
 	// PenaltyII4LBFGSAnalyticOutOfIterations: the iteration limit came first.
 	PenaltyII4LBFGSAnalyticOutOfIterations
 	// PenaltyII4LBFGSAnalyticOutOfEvaluations: the next objective call would have exceeded the evaluation cap.
 	PenaltyII4LBFGSAnalyticOutOfEvaluations
-	// PenaltyII4LBFGSAnalyticNoAcceptableStep: no trial of the line search met the step rule within its trials.
+	// PenaltyII4LBFGSAnalyticNoAcceptableStep: no trial of the line search met the step rule at a finite point within its trials.
 	PenaltyII4LBFGSAnalyticNoAcceptableStep
 	// PenaltyII4LBFGSAnalyticNonFiniteStart: x0 or the objective at x0 is NaN or ±Inf.
 	PenaltyII4LBFGSAnalyticNonFiniteStart
 	// PenaltyII4LBFGSAnalyticNonFiniteGradient: a gradient component became NaN or ±Inf.
 	PenaltyII4LBFGSAnalyticNonFiniteGradient
+	// PenaltyII4LBFGSAnalyticNoDecrease: no step longer than the step limit decreased f, and f rose about as fast as the analytic gradient said it would fall: the gradient is probably wrong (see the generated gradient test).
+	PenaltyII4LBFGSAnalyticNoDecrease
 )
 
 // String describes the status in a few words.
@@ -41,6 +43,8 @@ func (s PenaltyII4LBFGSAnalyticStatus) String() string {
 		return "non-finite start"
 	case PenaltyII4LBFGSAnalyticNonFiniteGradient:
 		return "non-finite gradient"
+	case PenaltyII4LBFGSAnalyticNoDecrease:
+		return "no decrease"
 	default:
 		return "unknown status"
 	}
@@ -63,7 +67,7 @@ type PenaltyII4LBFGSAnalyticResult struct {
 // PenaltyII4LBFGSAnalyticLimits are the stop limits of one run. Pass them to PenaltyII4LBFGSAnalyticWithLimits to change them at run time; PenaltyII4LBFGSAnalyticDefaultLimits returns the spec's.
 type PenaltyII4LBFGSAnalyticLimits struct {
 	Gradient    float64 // stop when the largest |∂f/∂xᵢ| is at most this
-	Step        float64 // stop when the largest |Δxᵢ| is at most this·(‖x‖∞ + 1)
+	Step        float64 // stop when every |Δxᵢ| is at most this·(|xᵢ| + 1)
 	Iterations  int     // most accepted steps
 	Evaluations int     // hard cap on objective calls, finite differences included; never exceeded
 }
@@ -84,7 +88,7 @@ func PenaltyII4LBFGSAnalyticDefaultLimits() PenaltyII4LBFGSAnalyticLimits {
 // Step rule wolfe: bracket and zoom until sufficient decrease and the curvature condition hold.
 // Derivative analytic: the user's own gradient function (spec key `gradient`); costs no objective calls.
 // Constants: initial 1.0, c1 0.0001, c2 0.9, at most 40 trials per line search, memory 5 pairs.
-// Default stop: largest gradient component ≤ 1e-08, step ≤ 1e-14·(‖x‖∞ + 1), 5000 iterations, 200000 objective calls.
+// Default stop: largest gradient component ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
 //
 // Worst case: 200000 objective calls (the evaluation cap; the iteration limit alone would allow 200001). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
@@ -122,9 +126,11 @@ const (
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
 //  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged);
+//     steps shorter than the step limit are left to try (converged when
+//     f was flat along d or the gradient is a difference, else no
+//     decrease);
 //  5. move, refresh the gradient, let the direction learn from the step;
-//  6. stop when the step is at most lim.Step·(‖x‖∞ + 1).
+//  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
 //
 // Before every objective call it checks that lim.Evaluations leaves room
 // for it, so the cap is never exceeded. A NaN or ±Inf at the start or in a
@@ -162,7 +168,7 @@ func penaltyII4LBFGSAnalyticMinimize(x0 [4]float64, lim PenaltyII4LBFGSAnalyticL
 			return out
 		}
 		if out.iterations > 0 {
-			if penaltyII4LBFGSAnalyticMaxAbs(&s) <= lim.Step*(penaltyII4LBFGSAnalyticMaxAbs(&x)+1) {
+			if penaltyII4LBFGSAnalyticStepWithin(&s, &x, lim.Step) {
 				out.status = PenaltyII4LBFGSAnalyticStepTiny
 				return out
 			}
@@ -174,7 +180,7 @@ func penaltyII4LBFGSAnalyticMinimize(x0 [4]float64, lim PenaltyII4LBFGSAnalyticL
 		}
 		dir.compute(&g, &d)
 		now := penaltyII4LBFGSAnalyticDot(&g, &d)
-		if !(now < 0) {
+		if !(now < 0) || !penaltyII4LBFGSAnalyticFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
 			dir.compute(&g, &d)
 			now = penaltyII4LBFGSAnalyticDot(&g, &d)
@@ -183,7 +189,7 @@ func penaltyII4LBFGSAnalyticMinimize(x0 [4]float64, lim PenaltyII4LBFGSAnalyticL
 		if out.iterations > 0 {
 			first = dir.firstTrial(t, slope, now)
 		}
-		tiny := lim.Step * (penaltyII4LBFGSAnalyticMaxAbs(&x) + 1) / penaltyII4LBFGSAnalyticMaxAbs(&d) // steps t ≤ tiny pass the step test
+		tiny := penaltyII4LBFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
 		found := penaltyII4LBFGSAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt)
 		out.evaluations += found.calls
 		switch found.end {
@@ -193,13 +199,27 @@ func penaltyII4LBFGSAnalyticMinimize(x0 [4]float64, lim PenaltyII4LBFGSAnalyticL
 			out.status = PenaltyII4LBFGSAnalyticNoAcceptableStep
 			return out
 		case penaltyII4LBFGSAnalyticSearchTiny:
-			out.status = PenaltyII4LBFGSAnalyticStepTiny
+			// Converged to the step limit when f was flat along d to the
+			// accuracy available (see penaltyII4LBFGSAnalyticFlatTrial), and always with finite
+			// differences: their error, not the true slope, then steers d,
+			// so x is stationary to the accuracy of the differences. With
+			// an analytic gradient that f contradicts, it is not.
+			out.status = PenaltyII4LBFGSAnalyticNoDecrease
+			if found.flat || penaltyII4LBFGSAnalyticDerivativeCost > 0 {
+				out.status = PenaltyII4LBFGSAnalyticStepTiny
+			}
+			return out
+		}
+		if !penaltyII4LBFGSAnalyticFiniteVec(&xt) {
+			out.status = PenaltyII4LBFGSAnalyticNoAcceptableStep // the accepted trial overflowed x
 			return out
 		}
 		if !found.gradient {
 			if out.evaluations+penaltyII4LBFGSAnalyticDerivativeCost > lim.Evaluations {
-				out.x, out.f = xt, found.value // keep the better point even without its gradient
-				out.iterations++
+				if found.value < fx { // keep a better point even without its gradient
+					out.x, out.f = xt, found.value
+					out.iterations++
+				}
 				return out
 			}
 			penaltyII4LBFGSAnalyticDerivative(&xt, found.value, &gt)
@@ -271,7 +291,7 @@ type penaltyII4LBFGSAnalyticDirection struct {
 	s, y   [penaltyII4LBFGSAnalyticLbfgsMemory][4]float64
 	rho    [penaltyII4LBFGSAnalyticLbfgsMemory]float64
 	newest int // index of the newest pair
-	count  int
+	count  int // pairs held, at most penaltyII4LBFGSAnalyticLbfgsMemory
 }
 
 func (s *penaltyII4LBFGSAnalyticDirection) reset() {
@@ -356,13 +376,14 @@ func penaltyII4LBFGSAnalyticNegate(out, x *[4]float64) {
 
 // penaltyII4LBFGSAnalyticCurvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
 // update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
-// as (sᵀy)² > u·(sᵀs)(yᵀy) with u the unit roundoff, so that the updated
+// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
+// that float32 does not overflow, with u the unit roundoff, so that the updated
 // matrix stays positive definite and well conditioned (Nocedal & Wright
 // 2006, §6.1, condition 6.7; the relative threshold √u·‖s‖‖y‖ is from
 // Dennis & Schnabel 1983, Algorithm A9.4.1, recalled from memory).
 func penaltyII4LBFGSAnalyticCurvatureSafe(s, y *[4]float64) bool {
 	sy := penaltyII4LBFGSAnalyticDot(s, y)
-	return sy > 0 && sy*sy > penaltyII4LBFGSAnalyticUnitRoundoff*penaltyII4LBFGSAnalyticDot(s, s)*penaltyII4LBFGSAnalyticDot(y, y)
+	return sy > 0 && (sy/penaltyII4LBFGSAnalyticDot(s, s))*(sy/penaltyII4LBFGSAnalyticDot(y, y)) > penaltyII4LBFGSAnalyticUnitRoundoff
 }
 
 // penaltyII4LBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
@@ -382,6 +403,32 @@ func penaltyII4LBFGSAnalyticAbs(v float64) float64 {
 		return -v
 	}
 	return v
+}
+
+// penaltyII4LBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func penaltyII4LBFGSAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
+	for i := range s {
+		if !(penaltyII4LBFGSAnalyticAbs(s[i]) <= tol*(penaltyII4LBFGSAnalyticAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
+}
+
+// penaltyII4LBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
+// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+func penaltyII4LBFGSAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
+	tiny := float64(-1)
+	for i := range x {
+		if d[i] != 0 {
+			if t := tol * (penaltyII4LBFGSAnalyticAbs(x[i]) + 1) / penaltyII4LBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+	}
+	return tiny
 }
 
 // penaltyII4LBFGSAnalyticLineSearch finds a step meeting the Wolfe conditions
@@ -411,22 +458,18 @@ func penaltyII4LBFGSAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64,
 	var high penaltyII4LBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                       // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	flat := false // whether a trial failing sufficient decrease found f flat
 	t := first
 	calls := 0
 	for trial := 0; trial < penaltyII4LBFGSAnalyticStepTrials; trial++ {
 		if bracketed && penaltyII4LBFGSAnalyticAbs(high.step-low.step) <= tiny {
 			// The bracket is below the step limit: take low when it
-			// decreased f; else x is converged to the step limit, unless
-			// f was not finite there.
+			// decreased f; else no step decreased f, unless f was not
+			// finite there.
 			if low.step == 0 {
-				return penaltyII4LBFGSAnalyticLineResult{calls: calls, end: penaltyII4LBFGSAnalyticTinyOrExhausted(penaltyII4LBFGSAnalyticFinite(high.value))}
+				return penaltyII4LBFGSAnalyticLineResult{calls: calls, flat: flat, end: penaltyII4LBFGSAnalyticTinyOrExhausted(penaltyII4LBFGSAnalyticFinite(high.value))}
 			}
-			penaltyII4LBFGSAnalyticMoveTo(xt, x, low.step, d)
-			*gt = lowGradient
-			return penaltyII4LBFGSAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: penaltyII4LBFGSAnalyticSearchAccepted}
-		}
-		if !bracketed && t <= tiny {
-			return penaltyII4LBFGSAnalyticLineResult{calls: calls, end: penaltyII4LBFGSAnalyticSearchTiny}
+			return penaltyII4LBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
 		}
 		if calls >= budget {
 			return penaltyII4LBFGSAnalyticLineResult{calls: calls, end: penaltyII4LBFGSAnalyticSearchOutOfBudget}
@@ -437,6 +480,7 @@ func penaltyII4LBFGSAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64,
 		previous := low
 		if !penaltyII4LBFGSAnalyticFinite(current.value) || current.value > fx+penaltyII4LBFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
+			flat = flat || penaltyII4LBFGSAnalyticFinite(current.value) && penaltyII4LBFGSAnalyticFlatTrial(fx, current.value, t, slope)
 		} else {
 			if calls+penaltyII4LBFGSAnalyticDerivativeCost > budget {
 				return penaltyII4LBFGSAnalyticLineResult{calls: calls, end: penaltyII4LBFGSAnalyticSearchOutOfBudget}
@@ -463,6 +507,9 @@ func penaltyII4LBFGSAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64,
 			t = penaltyII4LBFGSAnalyticExpandTrial(&previous, &current)
 		}
 	}
+	if low.step > 0 {
+		return penaltyII4LBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+	}
 	return penaltyII4LBFGSAnalyticLineResult{calls: calls, end: penaltyII4LBFGSAnalyticSearchExhausted}
 }
 
@@ -472,6 +519,7 @@ type penaltyII4LBFGSAnalyticLineResult struct {
 	value    float64                          // f(x + t·d)
 	calls    int                              // objective calls spent, finite differences included
 	gradient bool                             // whether gt holds ∇f(x + t·d) already
+	flat     bool                             // whether a failed trial found f flat along d (see penaltyII4LBFGSAnalyticFlatTrial)
 	end      penaltyII4LBFGSAnalyticSearchEnd // how the search ended
 }
 
@@ -485,10 +533,10 @@ type penaltyII4LBFGSAnalyticLinePoint struct {
 	hasSlope           bool
 }
 
-// penaltyII4LBFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: x is
-// converged to the step limit when the last failure was a finite increase
-// of f, but a non-finite value says nothing about f near x, so the search
-// has simply failed.
+// penaltyII4LBFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: no
+// decrease was found when the last failure was a finite value, but a
+// non-finite value says nothing about f near x, so the search has simply
+// failed.
 func penaltyII4LBFGSAnalyticTinyOrExhausted(lastFinite bool) penaltyII4LBFGSAnalyticSearchEnd {
 	if lastFinite {
 		return penaltyII4LBFGSAnalyticSearchTiny
@@ -500,14 +548,46 @@ const (
 	penaltyII4LBFGSAnalyticSearchAccepted    penaltyII4LBFGSAnalyticSearchEnd = iota // a step met the rule
 	penaltyII4LBFGSAnalyticSearchExhausted                                           // penaltyII4LBFGSAnalyticStepTrials trials met none
 	penaltyII4LBFGSAnalyticSearchOutOfBudget                                         // the evaluation cap came first
-	penaltyII4LBFGSAnalyticSearchTiny                                                // every step longer than tiny failed: x is converged to the step limit
+	penaltyII4LBFGSAnalyticSearchTiny                                                // every step longer than tiny failed to decrease f
 )
+
+// penaltyII4LBFGSAnalyticAcceptLow ends a Wolfe search with its best trial, which met sufficient
+// decrease though not the curvature condition, when the bracket collapsed
+// or the trials ran out. Its gradient was kept in lowGradient. (When the
+// budget runs out the search ends without a step instead, so that a capped
+// run follows the uncapped run's path up to the cap.)
+func penaltyII4LBFGSAnalyticAcceptLow(x, d *[4]float64, low *penaltyII4LBFGSAnalyticLinePoint, lowGradient *[4]float64, calls int, xt, gt *[4]float64) penaltyII4LBFGSAnalyticLineResult {
+	penaltyII4LBFGSAnalyticMoveTo(xt, x, low.step, d)
+	*gt = *lowGradient
+	return penaltyII4LBFGSAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: penaltyII4LBFGSAnalyticSearchAccepted}
+}
 
 // penaltyII4LBFGSAnalyticMoveTo sets out = x + t·d.
 func penaltyII4LBFGSAnalyticMoveTo(out, x *[4]float64, t float64, d *[4]float64) {
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
+}
+
+// penaltyII4LBFGSAnalyticFlatTrial reports whether a failed trial t found f flat along d, to
+// the accuracy the gradient and f allow, so that no decrease can be
+// expected from any step:
+//
+//   - the change f(x + t·d) − f(x) = ft − fx is at most half the
+//     first-order prediction t·∇fᵀd in size: near a minimizer whose
+//     gradient is known only roughly (differences), the true slope along
+//     d is below that accuracy. A wrong gradient makes f rise about as
+//     fast as it predicts a fall, and never passes. This is the ratio of
+//     actual to predicted reduction of trust-region methods (Nocedal &
+//     Wright 2006, eq. 4.4);
+//   - or the prediction itself, |t·∇fᵀd|, is below the rounding unit of
+//     f, u·|f(x)|: no change that small can show in floating point, so x
+//     is a minimizer to working precision (Dennis & Schnabel 1983, §7.2,
+//     relate the gradient test to the precision of f; recalled from
+//     memory).
+func penaltyII4LBFGSAnalyticFlatTrial(fx, ft, t, slope float64) bool {
+	predicted := penaltyII4LBFGSAnalyticAbs(t * slope)
+	return penaltyII4LBFGSAnalyticAbs(ft-fx) <= 0.5*predicted || predicted <= penaltyII4LBFGSAnalyticUnitRoundoff*penaltyII4LBFGSAnalyticAbs(fx)
 }
 
 // penaltyII4LBFGSAnalyticCurvatureMet is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)
@@ -565,7 +645,16 @@ func penaltyII4LBFGSAnalyticSquareRoot(v float64) float64 {
 // penaltyII4LBFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
 // either order.
 func penaltyII4LBFGSAnalyticClampBetween(v, a, b float64) float64 {
-	return max(min(a, b), min(max(a, b), v))
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
 }
 
 // penaltyII4LBFGSAnalyticExpandTrial picks a larger trial after current met sufficient decrease

@@ -28,10 +28,13 @@ func TestPenaltyII4LBFGSCentralAllocatesNothing(t *testing.T) {
 	}
 }
 
-// TestPenaltyII4LBFGSCentralRespectsEvaluationCap caps the run below what it needs and checks that the cap is never exceeded and that the run says why it stopped.
+// TestPenaltyII4LBFGSCentralRespectsEvaluationCap caps the run below what it needs (0–63, powers of two, and one short) and checks that the cap is never exceeded and that the run says why it stopped.
 func TestPenaltyII4LBFGSCentralRespectsEvaluationCap(t *testing.T) {
 	needed := PenaltyII4LBFGSCentral(penaltyII4LBFGSCentralTestStart()).Evaluations
-	for cap := 0; cap < needed; cap += 1 + cap/16 {
+	for cap := 0; cap < needed; cap++ {
+		if cap >= 64 && cap&(cap-1) != 0 && cap != needed-1 {
+			continue
+		}
 		limits := PenaltyII4LBFGSCentralDefaultLimits()
 		limits.Evaluations = cap
 		r := PenaltyII4LBFGSCentralWithLimits(penaltyII4LBFGSCentralTestStart(), limits)
@@ -45,7 +48,7 @@ func TestPenaltyII4LBFGSCentralRespectsEvaluationCap(t *testing.T) {
 func BenchmarkPenaltyII4LBFGSCentral(b *testing.B) {
 	var r PenaltyII4LBFGSCentralResult
 	b.ReportAllocs()
-	for b.Loop() {
+	for i := 0; i < b.N; i++ {
 		r = PenaltyII4LBFGSCentral(penaltyII4LBFGSCentralTestStart())
 	}
 	b.ReportMetric(float64(r.Evaluations), "evaluations/op")

@@ -28,10 +28,13 @@ func TestPowellBadlyScaledCGCentralAllocatesNothing(t *testing.T) {
 	}
 }
 
-// TestPowellBadlyScaledCGCentralRespectsEvaluationCap caps the run below what it needs and checks that the cap is never exceeded and that the run says why it stopped.
+// TestPowellBadlyScaledCGCentralRespectsEvaluationCap caps the run below what it needs (0–63, powers of two, and one short) and checks that the cap is never exceeded and that the run says why it stopped.
 func TestPowellBadlyScaledCGCentralRespectsEvaluationCap(t *testing.T) {
 	needed := PowellBadlyScaledCGCentral(powellBadlyScaledCGCentralTestStart()).Evaluations
-	for cap := 0; cap < needed; cap += 1 + cap/16 {
+	for cap := 0; cap < needed; cap++ {
+		if cap >= 64 && cap&(cap-1) != 0 && cap != needed-1 {
+			continue
+		}
 		limits := PowellBadlyScaledCGCentralDefaultLimits()
 		limits.Evaluations = cap
 		r := PowellBadlyScaledCGCentralWithLimits(powellBadlyScaledCGCentralTestStart(), limits)
@@ -45,7 +48,7 @@ func TestPowellBadlyScaledCGCentralRespectsEvaluationCap(t *testing.T) {
 func BenchmarkPowellBadlyScaledCGCentral(b *testing.B) {
 	var r PowellBadlyScaledCGCentralResult
 	b.ReportAllocs()
-	for b.Loop() {
+	for i := 0; i < b.N; i++ {
 		r = PowellBadlyScaledCGCentral(powellBadlyScaledCGCentralTestStart())
 	}
 	b.ReportMetric(float64(r.Evaluations), "evaluations/op")

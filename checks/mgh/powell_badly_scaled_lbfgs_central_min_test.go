@@ -28,10 +28,13 @@ func TestPowellBadlyScaledLBFGSCentralAllocatesNothing(t *testing.T) {
 	}
 }
 
-// TestPowellBadlyScaledLBFGSCentralRespectsEvaluationCap caps the run below what it needs and checks that the cap is never exceeded and that the run says why it stopped.
+// TestPowellBadlyScaledLBFGSCentralRespectsEvaluationCap caps the run below what it needs (0–63, powers of two, and one short) and checks that the cap is never exceeded and that the run says why it stopped.
 func TestPowellBadlyScaledLBFGSCentralRespectsEvaluationCap(t *testing.T) {
 	needed := PowellBadlyScaledLBFGSCentral(powellBadlyScaledLBFGSCentralTestStart()).Evaluations
-	for cap := 0; cap < needed; cap += 1 + cap/16 {
+	for cap := 0; cap < needed; cap++ {
+		if cap >= 64 && cap&(cap-1) != 0 && cap != needed-1 {
+			continue
+		}
 		limits := PowellBadlyScaledLBFGSCentralDefaultLimits()
 		limits.Evaluations = cap
 		r := PowellBadlyScaledLBFGSCentralWithLimits(powellBadlyScaledLBFGSCentralTestStart(), limits)
@@ -45,7 +48,7 @@ func TestPowellBadlyScaledLBFGSCentralRespectsEvaluationCap(t *testing.T) {
 func BenchmarkPowellBadlyScaledLBFGSCentral(b *testing.B) {
 	var r PowellBadlyScaledLBFGSCentralResult
 	b.ReportAllocs()
-	for b.Loop() {
+	for i := 0; i < b.N; i++ {
 		r = PowellBadlyScaledLBFGSCentral(powellBadlyScaledLBFGSCentralTestStart())
 	}
 	b.ReportMetric(float64(r.Evaluations), "evaluations/op")

@@ -28,10 +28,13 @@ func TestPowellSingularLBFGSCentralAllocatesNothing(t *testing.T) {
 	}
 }
 
-// TestPowellSingularLBFGSCentralRespectsEvaluationCap caps the run below what it needs and checks that the cap is never exceeded and that the run says why it stopped.
+// TestPowellSingularLBFGSCentralRespectsEvaluationCap caps the run below what it needs (0–63, powers of two, and one short) and checks that the cap is never exceeded and that the run says why it stopped.
 func TestPowellSingularLBFGSCentralRespectsEvaluationCap(t *testing.T) {
 	needed := PowellSingularLBFGSCentral(powellSingularLBFGSCentralTestStart()).Evaluations
-	for cap := 0; cap < needed; cap += 1 + cap/16 {
+	for cap := 0; cap < needed; cap++ {
+		if cap >= 64 && cap&(cap-1) != 0 && cap != needed-1 {
+			continue
+		}
 		limits := PowellSingularLBFGSCentralDefaultLimits()
 		limits.Evaluations = cap
 		r := PowellSingularLBFGSCentralWithLimits(powellSingularLBFGSCentralTestStart(), limits)
@@ -45,7 +48,7 @@ func TestPowellSingularLBFGSCentralRespectsEvaluationCap(t *testing.T) {
 func BenchmarkPowellSingularLBFGSCentral(b *testing.B) {
 	var r PowellSingularLBFGSCentralResult
 	b.ReportAllocs()
-	for b.Loop() {
+	for i := 0; i < b.N; i++ {
 		r = PowellSingularLBFGSCentral(powellSingularLBFGSCentralTestStart())
 	}
 	b.ReportMetric(float64(r.Evaluations), "evaluations/op")

@@ -10,18 +10,20 @@ type RosenbrockBFGSAnalyticStatus uint8
 const (
 	// RosenbrockBFGSAnalyticGradientSmall: the largest gradient component fell to the gradient limit: converged.
 	RosenbrockBFGSAnalyticGradientSmall RosenbrockBFGSAnalyticStatus = iota + 1
-	// RosenbrockBFGSAnalyticStepTiny: the last step was at most the step limit relative to ‖x‖∞ + 1: converged.
+	// RosenbrockBFGSAnalyticStepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f while f was flat to the accuracy of the gradient (always so with finite differences): converged.
 	RosenbrockBFGSAnalyticStepTiny
 	// RosenbrockBFGSAnalyticOutOfIterations: the iteration limit came first.
 	RosenbrockBFGSAnalyticOutOfIterations
 	// RosenbrockBFGSAnalyticOutOfEvaluations: the next objective call would have exceeded the evaluation cap.
 	RosenbrockBFGSAnalyticOutOfEvaluations
-	// RosenbrockBFGSAnalyticNoAcceptableStep: no trial of the line search met the step rule within its trials.
+	// RosenbrockBFGSAnalyticNoAcceptableStep: no trial of the line search met the step rule at a finite point within its trials.
 	RosenbrockBFGSAnalyticNoAcceptableStep
 	// RosenbrockBFGSAnalyticNonFiniteStart: x0 or the objective at x0 is NaN or ±Inf.
 	RosenbrockBFGSAnalyticNonFiniteStart
 	// RosenbrockBFGSAnalyticNonFiniteGradient: a gradient component became NaN or ±Inf.
 	RosenbrockBFGSAnalyticNonFiniteGradient
+	// RosenbrockBFGSAnalyticNoDecrease: no step longer than the step limit decreased f, and f rose about as fast as the analytic gradient said it would fall: the gradient is probably wrong (see the generated gradient test).
+	RosenbrockBFGSAnalyticNoDecrease
 )
 
 // String describes the status in a few words.
@@ -41,6 +43,8 @@ func (s RosenbrockBFGSAnalyticStatus) String() string {
 		return "non-finite start"
 	case RosenbrockBFGSAnalyticNonFiniteGradient:
 		return "non-finite gradient"
+	case RosenbrockBFGSAnalyticNoDecrease:
+		return "no decrease"
 	default:
 		return "unknown status"
 	}
@@ -63,7 +67,7 @@ type RosenbrockBFGSAnalyticResult struct {
 // RosenbrockBFGSAnalyticLimits are the stop limits of one run. Pass them to RosenbrockBFGSAnalyticWithLimits to change them at run time; RosenbrockBFGSAnalyticDefaultLimits returns the spec's.
 type RosenbrockBFGSAnalyticLimits struct {
 	Gradient    float64 // stop when the largest |∂f/∂xᵢ| is at most this
-	Step        float64 // stop when the largest |Δxᵢ| is at most this·(‖x‖∞ + 1)
+	Step        float64 // stop when every |Δxᵢ| is at most this·(|xᵢ| + 1)
 	Iterations  int     // most accepted steps
 	Evaluations int     // hard cap on objective calls, finite differences included; never exceeded
 }
@@ -84,7 +88,7 @@ func RosenbrockBFGSAnalyticDefaultLimits() RosenbrockBFGSAnalyticLimits {
 // Step rule wolfe: bracket and zoom until sufficient decrease and the curvature condition hold.
 // Derivative analytic: the user's own gradient function (spec key `gradient`); costs no objective calls.
 // Constants: initial 1.0, c1 0.0001, c2 0.9, at most 40 trials per line search.
-// Default stop: largest gradient component ≤ 1e-08, step ≤ 1e-14·(‖x‖∞ + 1), 5000 iterations, 200000 objective calls.
+// Default stop: largest gradient component ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
 //
 // Worst case: 200000 objective calls (the evaluation cap; the iteration limit alone would allow 200001). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
@@ -121,9 +125,11 @@ const (
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
 //  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged);
+//     steps shorter than the step limit are left to try (converged when
+//     f was flat along d or the gradient is a difference, else no
+//     decrease);
 //  5. move, refresh the gradient, let the direction learn from the step;
-//  6. stop when the step is at most lim.Step·(‖x‖∞ + 1).
+//  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
 //
 // Before every objective call it checks that lim.Evaluations leaves room
 // for it, so the cap is never exceeded. A NaN or ±Inf at the start or in a
@@ -161,7 +167,7 @@ func rosenbrockBFGSAnalyticMinimize(x0 [2]float64, lim RosenbrockBFGSAnalyticLim
 			return out
 		}
 		if out.iterations > 0 {
-			if rosenbrockBFGSAnalyticMaxAbs(&s) <= lim.Step*(rosenbrockBFGSAnalyticMaxAbs(&x)+1) {
+			if rosenbrockBFGSAnalyticStepWithin(&s, &x, lim.Step) {
 				out.status = RosenbrockBFGSAnalyticStepTiny
 				return out
 			}
@@ -173,7 +179,7 @@ func rosenbrockBFGSAnalyticMinimize(x0 [2]float64, lim RosenbrockBFGSAnalyticLim
 		}
 		dir.compute(&g, &d)
 		now := rosenbrockBFGSAnalyticDot(&g, &d)
-		if !(now < 0) {
+		if !(now < 0) || !rosenbrockBFGSAnalyticFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
 			dir.compute(&g, &d)
 			now = rosenbrockBFGSAnalyticDot(&g, &d)
@@ -182,7 +188,7 @@ func rosenbrockBFGSAnalyticMinimize(x0 [2]float64, lim RosenbrockBFGSAnalyticLim
 		if out.iterations > 0 {
 			first = dir.firstTrial(t, slope, now)
 		}
-		tiny := lim.Step * (rosenbrockBFGSAnalyticMaxAbs(&x) + 1) / rosenbrockBFGSAnalyticMaxAbs(&d) // steps t ≤ tiny pass the step test
+		tiny := rosenbrockBFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
 		found := rosenbrockBFGSAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt)
 		out.evaluations += found.calls
 		switch found.end {
@@ -192,13 +198,27 @@ func rosenbrockBFGSAnalyticMinimize(x0 [2]float64, lim RosenbrockBFGSAnalyticLim
 			out.status = RosenbrockBFGSAnalyticNoAcceptableStep
 			return out
 		case rosenbrockBFGSAnalyticSearchTiny:
-			out.status = RosenbrockBFGSAnalyticStepTiny
+			// Converged to the step limit when f was flat along d to the
+			// accuracy available (see rosenbrockBFGSAnalyticFlatTrial), and always with finite
+			// differences: their error, not the true slope, then steers d,
+			// so x is stationary to the accuracy of the differences. With
+			// an analytic gradient that f contradicts, it is not.
+			out.status = RosenbrockBFGSAnalyticNoDecrease
+			if found.flat || rosenbrockBFGSAnalyticDerivativeCost > 0 {
+				out.status = RosenbrockBFGSAnalyticStepTiny
+			}
+			return out
+		}
+		if !rosenbrockBFGSAnalyticFiniteVec(&xt) {
+			out.status = RosenbrockBFGSAnalyticNoAcceptableStep // the accepted trial overflowed x
 			return out
 		}
 		if !found.gradient {
 			if out.evaluations+rosenbrockBFGSAnalyticDerivativeCost > lim.Evaluations {
-				out.x, out.f = xt, found.value // keep the better point even without its gradient
-				out.iterations++
+				if found.value < fx { // keep a better point even without its gradient
+					out.x, out.f = xt, found.value
+					out.iterations++
+				}
 				return out
 			}
 			rosenbrockBFGSAnalyticDerivative(&xt, found.value, &gt)
@@ -328,13 +348,14 @@ func rosenbrockBFGSAnalyticDot(a, b *[2]float64) float64 {
 
 // rosenbrockBFGSAnalyticCurvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
 // update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
-// as (sᵀy)² > u·(sᵀs)(yᵀy) with u the unit roundoff, so that the updated
+// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
+// that float32 does not overflow, with u the unit roundoff, so that the updated
 // matrix stays positive definite and well conditioned (Nocedal & Wright
 // 2006, §6.1, condition 6.7; the relative threshold √u·‖s‖‖y‖ is from
 // Dennis & Schnabel 1983, Algorithm A9.4.1, recalled from memory).
 func rosenbrockBFGSAnalyticCurvatureSafe(s, y *[2]float64) bool {
 	sy := rosenbrockBFGSAnalyticDot(s, y)
-	return sy > 0 && sy*sy > rosenbrockBFGSAnalyticUnitRoundoff*rosenbrockBFGSAnalyticDot(s, s)*rosenbrockBFGSAnalyticDot(y, y)
+	return sy > 0 && (sy/rosenbrockBFGSAnalyticDot(s, s))*(sy/rosenbrockBFGSAnalyticDot(y, y)) > rosenbrockBFGSAnalyticUnitRoundoff
 }
 
 // rosenbrockBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
@@ -354,6 +375,32 @@ func rosenbrockBFGSAnalyticAbs(v float64) float64 {
 		return -v
 	}
 	return v
+}
+
+// rosenbrockBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func rosenbrockBFGSAnalyticStepWithin(s, x *[2]float64, tol float64) bool {
+	for i := range s {
+		if !(rosenbrockBFGSAnalyticAbs(s[i]) <= tol*(rosenbrockBFGSAnalyticAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
+}
+
+// rosenbrockBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
+// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+func rosenbrockBFGSAnalyticTinyStep(x, d *[2]float64, tol float64) float64 {
+	tiny := float64(-1)
+	for i := range x {
+		if d[i] != 0 {
+			if t := tol * (rosenbrockBFGSAnalyticAbs(x[i]) + 1) / rosenbrockBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+	}
+	return tiny
 }
 
 // rosenbrockBFGSAnalyticLineSearch finds a step meeting the Wolfe conditions
@@ -383,22 +430,18 @@ func rosenbrockBFGSAnalyticLineSearch(x *[2]float64, fx float64, d *[2]float64, 
 	var high rosenbrockBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                      // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	flat := false // whether a trial failing sufficient decrease found f flat
 	t := first
 	calls := 0
 	for trial := 0; trial < rosenbrockBFGSAnalyticStepTrials; trial++ {
 		if bracketed && rosenbrockBFGSAnalyticAbs(high.step-low.step) <= tiny {
 			// The bracket is below the step limit: take low when it
-			// decreased f; else x is converged to the step limit, unless
-			// f was not finite there.
+			// decreased f; else no step decreased f, unless f was not
+			// finite there.
 			if low.step == 0 {
-				return rosenbrockBFGSAnalyticLineResult{calls: calls, end: rosenbrockBFGSAnalyticTinyOrExhausted(rosenbrockBFGSAnalyticFinite(high.value))}
+				return rosenbrockBFGSAnalyticLineResult{calls: calls, flat: flat, end: rosenbrockBFGSAnalyticTinyOrExhausted(rosenbrockBFGSAnalyticFinite(high.value))}
 			}
-			rosenbrockBFGSAnalyticMoveTo(xt, x, low.step, d)
-			*gt = lowGradient
-			return rosenbrockBFGSAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: rosenbrockBFGSAnalyticSearchAccepted}
-		}
-		if !bracketed && t <= tiny {
-			return rosenbrockBFGSAnalyticLineResult{calls: calls, end: rosenbrockBFGSAnalyticSearchTiny}
+			return rosenbrockBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
 		}
 		if calls >= budget {
 			return rosenbrockBFGSAnalyticLineResult{calls: calls, end: rosenbrockBFGSAnalyticSearchOutOfBudget}
@@ -409,6 +452,7 @@ func rosenbrockBFGSAnalyticLineSearch(x *[2]float64, fx float64, d *[2]float64, 
 		previous := low
 		if !rosenbrockBFGSAnalyticFinite(current.value) || current.value > fx+rosenbrockBFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
+			flat = flat || rosenbrockBFGSAnalyticFinite(current.value) && rosenbrockBFGSAnalyticFlatTrial(fx, current.value, t, slope)
 		} else {
 			if calls+rosenbrockBFGSAnalyticDerivativeCost > budget {
 				return rosenbrockBFGSAnalyticLineResult{calls: calls, end: rosenbrockBFGSAnalyticSearchOutOfBudget}
@@ -435,6 +479,9 @@ func rosenbrockBFGSAnalyticLineSearch(x *[2]float64, fx float64, d *[2]float64, 
 			t = rosenbrockBFGSAnalyticExpandTrial(&previous, &current)
 		}
 	}
+	if low.step > 0 {
+		return rosenbrockBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+	}
 	return rosenbrockBFGSAnalyticLineResult{calls: calls, end: rosenbrockBFGSAnalyticSearchExhausted}
 }
 
@@ -444,6 +491,7 @@ type rosenbrockBFGSAnalyticLineResult struct {
 	value    float64                         // f(x + t·d)
 	calls    int                             // objective calls spent, finite differences included
 	gradient bool                            // whether gt holds ∇f(x + t·d) already
+	flat     bool                            // whether a failed trial found f flat along d (see rosenbrockBFGSAnalyticFlatTrial)
 	end      rosenbrockBFGSAnalyticSearchEnd // how the search ended
 }
 
@@ -457,10 +505,10 @@ type rosenbrockBFGSAnalyticLinePoint struct {
 	hasSlope           bool
 }
 
-// rosenbrockBFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: x is
-// converged to the step limit when the last failure was a finite increase
-// of f, but a non-finite value says nothing about f near x, so the search
-// has simply failed.
+// rosenbrockBFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: no
+// decrease was found when the last failure was a finite value, but a
+// non-finite value says nothing about f near x, so the search has simply
+// failed.
 func rosenbrockBFGSAnalyticTinyOrExhausted(lastFinite bool) rosenbrockBFGSAnalyticSearchEnd {
 	if lastFinite {
 		return rosenbrockBFGSAnalyticSearchTiny
@@ -472,14 +520,46 @@ const (
 	rosenbrockBFGSAnalyticSearchAccepted    rosenbrockBFGSAnalyticSearchEnd = iota // a step met the rule
 	rosenbrockBFGSAnalyticSearchExhausted                                          // rosenbrockBFGSAnalyticStepTrials trials met none
 	rosenbrockBFGSAnalyticSearchOutOfBudget                                        // the evaluation cap came first
-	rosenbrockBFGSAnalyticSearchTiny                                               // every step longer than tiny failed: x is converged to the step limit
+	rosenbrockBFGSAnalyticSearchTiny                                               // every step longer than tiny failed to decrease f
 )
+
+// rosenbrockBFGSAnalyticAcceptLow ends a Wolfe search with its best trial, which met sufficient
+// decrease though not the curvature condition, when the bracket collapsed
+// or the trials ran out. Its gradient was kept in lowGradient. (When the
+// budget runs out the search ends without a step instead, so that a capped
+// run follows the uncapped run's path up to the cap.)
+func rosenbrockBFGSAnalyticAcceptLow(x, d *[2]float64, low *rosenbrockBFGSAnalyticLinePoint, lowGradient *[2]float64, calls int, xt, gt *[2]float64) rosenbrockBFGSAnalyticLineResult {
+	rosenbrockBFGSAnalyticMoveTo(xt, x, low.step, d)
+	*gt = *lowGradient
+	return rosenbrockBFGSAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: rosenbrockBFGSAnalyticSearchAccepted}
+}
 
 // rosenbrockBFGSAnalyticMoveTo sets out = x + t·d.
 func rosenbrockBFGSAnalyticMoveTo(out, x *[2]float64, t float64, d *[2]float64) {
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
+}
+
+// rosenbrockBFGSAnalyticFlatTrial reports whether a failed trial t found f flat along d, to
+// the accuracy the gradient and f allow, so that no decrease can be
+// expected from any step:
+//
+//   - the change f(x + t·d) − f(x) = ft − fx is at most half the
+//     first-order prediction t·∇fᵀd in size: near a minimizer whose
+//     gradient is known only roughly (differences), the true slope along
+//     d is below that accuracy. A wrong gradient makes f rise about as
+//     fast as it predicts a fall, and never passes. This is the ratio of
+//     actual to predicted reduction of trust-region methods (Nocedal &
+//     Wright 2006, eq. 4.4);
+//   - or the prediction itself, |t·∇fᵀd|, is below the rounding unit of
+//     f, u·|f(x)|: no change that small can show in floating point, so x
+//     is a minimizer to working precision (Dennis & Schnabel 1983, §7.2,
+//     relate the gradient test to the precision of f; recalled from
+//     memory).
+func rosenbrockBFGSAnalyticFlatTrial(fx, ft, t, slope float64) bool {
+	predicted := rosenbrockBFGSAnalyticAbs(t * slope)
+	return rosenbrockBFGSAnalyticAbs(ft-fx) <= 0.5*predicted || predicted <= rosenbrockBFGSAnalyticUnitRoundoff*rosenbrockBFGSAnalyticAbs(fx)
 }
 
 // rosenbrockBFGSAnalyticCurvatureMet is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)
@@ -537,7 +617,16 @@ func rosenbrockBFGSAnalyticSquareRoot(v float64) float64 {
 // rosenbrockBFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
 // either order.
 func rosenbrockBFGSAnalyticClampBetween(v, a, b float64) float64 {
-	return max(min(a, b), min(max(a, b), v))
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
 }
 
 // rosenbrockBFGSAnalyticExpandTrial picks a larger trial after current met sufficient decrease

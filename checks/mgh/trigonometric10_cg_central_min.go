@@ -10,18 +10,20 @@ type Trigonometric10CGCentralStatus uint8
 const (
 	// Trigonometric10CGCentralGradientSmall: the largest gradient component fell to the gradient limit: converged.
 	Trigonometric10CGCentralGradientSmall Trigonometric10CGCentralStatus = iota + 1
-	// Trigonometric10CGCentralStepTiny: the last step was at most the step limit relative to ‖x‖∞ + 1: converged.
+	// Trigonometric10CGCentralStepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f while f was flat to the accuracy of the gradient (always so with finite differences): converged.
 	Trigonometric10CGCentralStepTiny
 	// Trigonometric10CGCentralOutOfIterations: the iteration limit came first.
 	Trigonometric10CGCentralOutOfIterations
 	// Trigonometric10CGCentralOutOfEvaluations: the next objective call would have exceeded the evaluation cap.
 	Trigonometric10CGCentralOutOfEvaluations
-	// Trigonometric10CGCentralNoAcceptableStep: no trial of the line search met the step rule within its trials.
+	// Trigonometric10CGCentralNoAcceptableStep: no trial of the line search met the step rule at a finite point within its trials.
 	Trigonometric10CGCentralNoAcceptableStep
 	// Trigonometric10CGCentralNonFiniteStart: x0 or the objective at x0 is NaN or ±Inf.
 	Trigonometric10CGCentralNonFiniteStart
 	// Trigonometric10CGCentralNonFiniteGradient: a gradient component became NaN or ±Inf.
 	Trigonometric10CGCentralNonFiniteGradient
+	// Trigonometric10CGCentralNoDecrease: no step longer than the step limit decreased f, and f rose about as fast as the analytic gradient said it would fall: the gradient is probably wrong (see the generated gradient test).
+	Trigonometric10CGCentralNoDecrease
 )
 
 // String describes the status in a few words.
@@ -41,6 +43,8 @@ func (s Trigonometric10CGCentralStatus) String() string {
 		return "non-finite start"
 	case Trigonometric10CGCentralNonFiniteGradient:
 		return "non-finite gradient"
+	case Trigonometric10CGCentralNoDecrease:
+		return "no decrease"
 	default:
 		return "unknown status"
 	}
@@ -63,7 +67,7 @@ type Trigonometric10CGCentralResult struct {
 // Trigonometric10CGCentralLimits are the stop limits of one run. Pass them to Trigonometric10CGCentralWithLimits to change them at run time; Trigonometric10CGCentralDefaultLimits returns the spec's.
 type Trigonometric10CGCentralLimits struct {
 	Gradient    float64 // stop when the largest |∂f/∂xᵢ| is at most this
-	Step        float64 // stop when the largest |Δxᵢ| is at most this·(‖x‖∞ + 1)
+	Step        float64 // stop when every |Δxᵢ| is at most this·(|xᵢ| + 1)
 	Iterations  int     // most accepted steps
 	Evaluations int     // hard cap on objective calls, finite differences included; never exceeded
 }
@@ -84,7 +88,7 @@ func Trigonometric10CGCentralDefaultLimits() Trigonometric10CGCentralLimits {
 // Step rule strong-wolfe: bracket and zoom until sufficient decrease and the strong curvature condition hold.
 // Derivative central: central differences: 2·dim objective calls per gradient, error O(u^(2/3)).
 // Constants: initial 1.0, c1 0.0001, c2 0.1, at most 40 trials per line search.
-// Default stop: largest gradient component ≤ 1e-08, step ≤ 1e-14·(‖x‖∞ + 1), 5000 iterations, 200000 objective calls.
+// Default stop: largest gradient component ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
 //
 // Worst case: 200000 objective calls, 20 of them per gradient (the evaluation cap; the iteration limit alone would allow 4200021). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
@@ -106,12 +110,13 @@ func Trigonometric10CGCentralWithLimits(x0 [10]float64, limits Trigonometric10CG
 
 // Tunables of Trigonometric10CGCentral from mgh.toml; the kernels below read them.
 const (
-	trigonometric10CGCentralStepInitial    = 1.0                   // step.initial
-	trigonometric10CGCentralStepDecrease   = 0.0001                // step.decrease (c1)
-	trigonometric10CGCentralStepCurvature  = 0.1                   // step.curvature (c2)
-	trigonometric10CGCentralStepTrials     = 40                    // step.trials
-	trigonometric10CGCentralDerivativeCost = 20                    // objective calls per gradient
-	trigonometric10CGCentralCentralScale   = 4.806217383937352e-06 // ∛u, central-difference step scale (Nocedal & Wright 2006, §8.1)
+	trigonometric10CGCentralStepInitial    = 1.0                    // step.initial
+	trigonometric10CGCentralStepDecrease   = 0.0001                 // step.decrease (c1)
+	trigonometric10CGCentralStepCurvature  = 0.1                    // step.curvature (c2)
+	trigonometric10CGCentralStepTrials     = 40                     // step.trials
+	trigonometric10CGCentralDerivativeCost = 20                     // objective calls per gradient
+	trigonometric10CGCentralUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
+	trigonometric10CGCentralCentralScale   = 4.806217383937352e-06  // ∛u, central-difference step scale (Nocedal & Wright 2006, §8.1)
 )
 
 // trigonometric10CGCentralMinimize runs the descent loop from x0 within lim:
@@ -121,9 +126,11 @@ const (
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
 //  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged);
+//     steps shorter than the step limit are left to try (converged when
+//     f was flat along d or the gradient is a difference, else no
+//     decrease);
 //  5. move, refresh the gradient, let the direction learn from the step;
-//  6. stop when the step is at most lim.Step·(‖x‖∞ + 1).
+//  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
 //
 // Before every objective call it checks that lim.Evaluations leaves room
 // for it, so the cap is never exceeded. A NaN or ±Inf at the start or in a
@@ -161,7 +168,7 @@ func trigonometric10CGCentralMinimize(x0 [10]float64, lim Trigonometric10CGCentr
 			return out
 		}
 		if out.iterations > 0 {
-			if trigonometric10CGCentralMaxAbs(&s) <= lim.Step*(trigonometric10CGCentralMaxAbs(&x)+1) {
+			if trigonometric10CGCentralStepWithin(&s, &x, lim.Step) {
 				out.status = Trigonometric10CGCentralStepTiny
 				return out
 			}
@@ -173,7 +180,7 @@ func trigonometric10CGCentralMinimize(x0 [10]float64, lim Trigonometric10CGCentr
 		}
 		dir.compute(&g, &d)
 		now := trigonometric10CGCentralDot(&g, &d)
-		if !(now < 0) {
+		if !(now < 0) || !trigonometric10CGCentralFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
 			dir.compute(&g, &d)
 			now = trigonometric10CGCentralDot(&g, &d)
@@ -182,7 +189,7 @@ func trigonometric10CGCentralMinimize(x0 [10]float64, lim Trigonometric10CGCentr
 		if out.iterations > 0 {
 			first = dir.firstTrial(t, slope, now)
 		}
-		tiny := lim.Step * (trigonometric10CGCentralMaxAbs(&x) + 1) / trigonometric10CGCentralMaxAbs(&d) // steps t ≤ tiny pass the step test
+		tiny := trigonometric10CGCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
 		found := trigonometric10CGCentralLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt)
 		out.evaluations += found.calls
 		switch found.end {
@@ -192,13 +199,27 @@ func trigonometric10CGCentralMinimize(x0 [10]float64, lim Trigonometric10CGCentr
 			out.status = Trigonometric10CGCentralNoAcceptableStep
 			return out
 		case trigonometric10CGCentralSearchTiny:
-			out.status = Trigonometric10CGCentralStepTiny
+			// Converged to the step limit when f was flat along d to the
+			// accuracy available (see trigonometric10CGCentralFlatTrial), and always with finite
+			// differences: their error, not the true slope, then steers d,
+			// so x is stationary to the accuracy of the differences. With
+			// an analytic gradient that f contradicts, it is not.
+			out.status = Trigonometric10CGCentralNoDecrease
+			if found.flat || trigonometric10CGCentralDerivativeCost > 0 {
+				out.status = Trigonometric10CGCentralStepTiny
+			}
+			return out
+		}
+		if !trigonometric10CGCentralFiniteVec(&xt) {
+			out.status = Trigonometric10CGCentralNoAcceptableStep // the accepted trial overflowed x
 			return out
 		}
 		if !found.gradient {
 			if out.evaluations+trigonometric10CGCentralDerivativeCost > lim.Evaluations {
-				out.x, out.f = xt, found.value // keep the better point even without its gradient
-				out.iterations++
+				if found.value < fx { // keep a better point even without its gradient
+					out.x, out.f = xt, found.value
+					out.iterations++
+				}
 				return out
 			}
 			trigonometric10CGCentralDerivative(&xt, found.value, &gt)
@@ -253,7 +274,7 @@ func trigonometric10CGCentralDerivative(x *[10]float64, fx float64, g *[10]float
 	probe := *x
 	for i := range probe {
 		xi := probe[i]
-		h := trigonometric10CGCentralCentralScale * max(1, trigonometric10CGCentralAbs(xi)) // N&W §8.1: h = ∛u·max(1,|x_i|)
+		h := trigonometric10CGCentralCentralScale * trigonometric10CGCentralLarger(1, trigonometric10CGCentralAbs(xi)) // N&W §8.1: h = ∛u·max(1,|x_i|)
 		up := xi + h
 		down := xi - h
 		probe[i] = up
@@ -263,6 +284,16 @@ func trigonometric10CGCentralDerivative(x *[10]float64, fx float64, g *[10]float
 		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
 		probe[i] = xi
 	}
+}
+
+// trigonometric10CGCentralLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func trigonometric10CGCentralLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
 }
 
 // trigonometric10CGCentralAbs returns |v|.
@@ -303,7 +334,7 @@ func (s *trigonometric10CGCentralDirection) reset() {
 func (s *trigonometric10CGCentralDirection) compute(g, d *[10]float64) {
 	var beta float64
 	if s.steps > 0 && s.steps < 10 && s.squared > 0 {
-		beta = max(trigonometric10CGCentralDot(g, &s.change)/s.squared, 0) // N&W eq. 5.45 (PR+)
+		beta = trigonometric10CGCentralLarger(trigonometric10CGCentralDot(g, &s.change)/s.squared, 0) // N&W eq. 5.45 (PR+)
 	}
 	for i := range d {
 		d[i] = -g[i] + beta*s.previous[i] // N&W eq. 5.44
@@ -356,6 +387,32 @@ func trigonometric10CGCentralMaxAbs(x *[10]float64) float64 {
 	return m
 }
 
+// trigonometric10CGCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func trigonometric10CGCentralStepWithin(s, x *[10]float64, tol float64) bool {
+	for i := range s {
+		if !(trigonometric10CGCentralAbs(s[i]) <= tol*(trigonometric10CGCentralAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
+}
+
+// trigonometric10CGCentralTinyStep returns the longest t for which the step t·d from x passes the
+// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+func trigonometric10CGCentralTinyStep(x, d *[10]float64, tol float64) float64 {
+	tiny := float64(-1)
+	for i := range x {
+		if d[i] != 0 {
+			if t := tol * (trigonometric10CGCentralAbs(x[i]) + 1) / trigonometric10CGCentralAbs(d[i]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+	}
+	return tiny
+}
+
 // trigonometric10CGCentralLineSearch finds a step meeting the Wolfe conditions
 //
 //	f(x + t·d) ≤ f(x) + c1·t·∇f(x)ᵀd                (sufficient decrease)
@@ -383,22 +440,18 @@ func trigonometric10CGCentralLineSearch(x *[10]float64, fx float64, d *[10]float
 	var high trigonometric10CGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                       // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	flat := false // whether a trial failing sufficient decrease found f flat
 	t := first
 	calls := 0
 	for trial := 0; trial < trigonometric10CGCentralStepTrials; trial++ {
 		if bracketed && trigonometric10CGCentralAbs(high.step-low.step) <= tiny {
 			// The bracket is below the step limit: take low when it
-			// decreased f; else x is converged to the step limit, unless
-			// f was not finite there.
+			// decreased f; else no step decreased f, unless f was not
+			// finite there.
 			if low.step == 0 {
-				return trigonometric10CGCentralLineResult{calls: calls, end: trigonometric10CGCentralTinyOrExhausted(trigonometric10CGCentralFinite(high.value))}
+				return trigonometric10CGCentralLineResult{calls: calls, flat: flat, end: trigonometric10CGCentralTinyOrExhausted(trigonometric10CGCentralFinite(high.value))}
 			}
-			trigonometric10CGCentralMoveTo(xt, x, low.step, d)
-			*gt = lowGradient
-			return trigonometric10CGCentralLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: trigonometric10CGCentralSearchAccepted}
-		}
-		if !bracketed && t <= tiny {
-			return trigonometric10CGCentralLineResult{calls: calls, end: trigonometric10CGCentralSearchTiny}
+			return trigonometric10CGCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
 		}
 		if calls >= budget {
 			return trigonometric10CGCentralLineResult{calls: calls, end: trigonometric10CGCentralSearchOutOfBudget}
@@ -409,6 +462,7 @@ func trigonometric10CGCentralLineSearch(x *[10]float64, fx float64, d *[10]float
 		previous := low
 		if !trigonometric10CGCentralFinite(current.value) || current.value > fx+trigonometric10CGCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
+			flat = flat || trigonometric10CGCentralFinite(current.value) && trigonometric10CGCentralFlatTrial(fx, current.value, t, slope)
 		} else {
 			if calls+trigonometric10CGCentralDerivativeCost > budget {
 				return trigonometric10CGCentralLineResult{calls: calls, end: trigonometric10CGCentralSearchOutOfBudget}
@@ -435,6 +489,9 @@ func trigonometric10CGCentralLineSearch(x *[10]float64, fx float64, d *[10]float
 			t = trigonometric10CGCentralExpandTrial(&previous, &current)
 		}
 	}
+	if low.step > 0 {
+		return trigonometric10CGCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+	}
 	return trigonometric10CGCentralLineResult{calls: calls, end: trigonometric10CGCentralSearchExhausted}
 }
 
@@ -444,6 +501,7 @@ type trigonometric10CGCentralLineResult struct {
 	value    float64                           // f(x + t·d)
 	calls    int                               // objective calls spent, finite differences included
 	gradient bool                              // whether gt holds ∇f(x + t·d) already
+	flat     bool                              // whether a failed trial found f flat along d (see trigonometric10CGCentralFlatTrial)
 	end      trigonometric10CGCentralSearchEnd // how the search ended
 }
 
@@ -457,10 +515,10 @@ type trigonometric10CGCentralLinePoint struct {
 	hasSlope           bool
 }
 
-// trigonometric10CGCentralTinyOrExhausted ends a search that has run below the step limit: x is
-// converged to the step limit when the last failure was a finite increase
-// of f, but a non-finite value says nothing about f near x, so the search
-// has simply failed.
+// trigonometric10CGCentralTinyOrExhausted ends a search that has run below the step limit: no
+// decrease was found when the last failure was a finite value, but a
+// non-finite value says nothing about f near x, so the search has simply
+// failed.
 func trigonometric10CGCentralTinyOrExhausted(lastFinite bool) trigonometric10CGCentralSearchEnd {
 	if lastFinite {
 		return trigonometric10CGCentralSearchTiny
@@ -472,14 +530,46 @@ const (
 	trigonometric10CGCentralSearchAccepted    trigonometric10CGCentralSearchEnd = iota // a step met the rule
 	trigonometric10CGCentralSearchExhausted                                            // trigonometric10CGCentralStepTrials trials met none
 	trigonometric10CGCentralSearchOutOfBudget                                          // the evaluation cap came first
-	trigonometric10CGCentralSearchTiny                                                 // every step longer than tiny failed: x is converged to the step limit
+	trigonometric10CGCentralSearchTiny                                                 // every step longer than tiny failed to decrease f
 )
+
+// trigonometric10CGCentralAcceptLow ends a Wolfe search with its best trial, which met sufficient
+// decrease though not the curvature condition, when the bracket collapsed
+// or the trials ran out. Its gradient was kept in lowGradient. (When the
+// budget runs out the search ends without a step instead, so that a capped
+// run follows the uncapped run's path up to the cap.)
+func trigonometric10CGCentralAcceptLow(x, d *[10]float64, low *trigonometric10CGCentralLinePoint, lowGradient *[10]float64, calls int, xt, gt *[10]float64) trigonometric10CGCentralLineResult {
+	trigonometric10CGCentralMoveTo(xt, x, low.step, d)
+	*gt = *lowGradient
+	return trigonometric10CGCentralLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: trigonometric10CGCentralSearchAccepted}
+}
 
 // trigonometric10CGCentralMoveTo sets out = x + t·d.
 func trigonometric10CGCentralMoveTo(out, x *[10]float64, t float64, d *[10]float64) {
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
+}
+
+// trigonometric10CGCentralFlatTrial reports whether a failed trial t found f flat along d, to
+// the accuracy the gradient and f allow, so that no decrease can be
+// expected from any step:
+//
+//   - the change f(x + t·d) − f(x) = ft − fx is at most half the
+//     first-order prediction t·∇fᵀd in size: near a minimizer whose
+//     gradient is known only roughly (differences), the true slope along
+//     d is below that accuracy. A wrong gradient makes f rise about as
+//     fast as it predicts a fall, and never passes. This is the ratio of
+//     actual to predicted reduction of trust-region methods (Nocedal &
+//     Wright 2006, eq. 4.4);
+//   - or the prediction itself, |t·∇fᵀd|, is below the rounding unit of
+//     f, u·|f(x)|: no change that small can show in floating point, so x
+//     is a minimizer to working precision (Dennis & Schnabel 1983, §7.2,
+//     relate the gradient test to the precision of f; recalled from
+//     memory).
+func trigonometric10CGCentralFlatTrial(fx, ft, t, slope float64) bool {
+	predicted := trigonometric10CGCentralAbs(t * slope)
+	return trigonometric10CGCentralAbs(ft-fx) <= 0.5*predicted || predicted <= trigonometric10CGCentralUnitRoundoff*trigonometric10CGCentralAbs(fx)
 }
 
 // trigonometric10CGCentralCurvatureMet is the strong Wolfe curvature condition
@@ -537,7 +627,16 @@ func trigonometric10CGCentralSquareRoot(v float64) float64 {
 // trigonometric10CGCentralClampBetween returns v limited to the interval with ends a and b, in
 // either order.
 func trigonometric10CGCentralClampBetween(v, a, b float64) float64 {
-	return max(min(a, b), min(max(a, b), v))
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
 }
 
 // trigonometric10CGCentralExpandTrial picks a larger trial after current met sufficient decrease

@@ -28,10 +28,13 @@ func TestWatson6BFGSCentralAllocatesNothing(t *testing.T) {
 	}
 }
 
-// TestWatson6BFGSCentralRespectsEvaluationCap caps the run below what it needs and checks that the cap is never exceeded and that the run says why it stopped.
+// TestWatson6BFGSCentralRespectsEvaluationCap caps the run below what it needs (0–63, powers of two, and one short) and checks that the cap is never exceeded and that the run says why it stopped.
 func TestWatson6BFGSCentralRespectsEvaluationCap(t *testing.T) {
 	needed := Watson6BFGSCentral(watson6BFGSCentralTestStart()).Evaluations
-	for cap := 0; cap < needed; cap += 1 + cap/16 {
+	for cap := 0; cap < needed; cap++ {
+		if cap >= 64 && cap&(cap-1) != 0 && cap != needed-1 {
+			continue
+		}
 		limits := Watson6BFGSCentralDefaultLimits()
 		limits.Evaluations = cap
 		r := Watson6BFGSCentralWithLimits(watson6BFGSCentralTestStart(), limits)
@@ -45,7 +48,7 @@ func TestWatson6BFGSCentralRespectsEvaluationCap(t *testing.T) {
 func BenchmarkWatson6BFGSCentral(b *testing.B) {
 	var r Watson6BFGSCentralResult
 	b.ReportAllocs()
-	for b.Loop() {
+	for i := 0; i < b.N; i++ {
 		r = Watson6BFGSCentral(watson6BFGSCentralTestStart())
 	}
 	b.ReportMetric(float64(r.Evaluations), "evaluations/op")

@@ -28,10 +28,13 @@ func TestWatson6CGCentralAllocatesNothing(t *testing.T) {
 	}
 }
 
-// TestWatson6CGCentralRespectsEvaluationCap caps the run below what it needs and checks that the cap is never exceeded and that the run says why it stopped.
+// TestWatson6CGCentralRespectsEvaluationCap caps the run below what it needs (0–63, powers of two, and one short) and checks that the cap is never exceeded and that the run says why it stopped.
 func TestWatson6CGCentralRespectsEvaluationCap(t *testing.T) {
 	needed := Watson6CGCentral(watson6CGCentralTestStart()).Evaluations
-	for cap := 0; cap < needed; cap += 1 + cap/16 {
+	for cap := 0; cap < needed; cap++ {
+		if cap >= 64 && cap&(cap-1) != 0 && cap != needed-1 {
+			continue
+		}
 		limits := Watson6CGCentralDefaultLimits()
 		limits.Evaluations = cap
 		r := Watson6CGCentralWithLimits(watson6CGCentralTestStart(), limits)
@@ -45,7 +48,7 @@ func TestWatson6CGCentralRespectsEvaluationCap(t *testing.T) {
 func BenchmarkWatson6CGCentral(b *testing.B) {
 	var r Watson6CGCentralResult
 	b.ReportAllocs()
-	for b.Loop() {
+	for i := 0; i < b.N; i++ {
 		r = Watson6CGCentral(watson6CGCentralTestStart())
 	}
 	b.ReportMetric(float64(r.Evaluations), "evaluations/op")

@@ -28,10 +28,13 @@ func TestWatson6LBFGSCentralAllocatesNothing(t *testing.T) {
 	}
 }
 
-// TestWatson6LBFGSCentralRespectsEvaluationCap caps the run below what it needs and checks that the cap is never exceeded and that the run says why it stopped.
+// TestWatson6LBFGSCentralRespectsEvaluationCap caps the run below what it needs (0–63, powers of two, and one short) and checks that the cap is never exceeded and that the run says why it stopped.
 func TestWatson6LBFGSCentralRespectsEvaluationCap(t *testing.T) {
 	needed := Watson6LBFGSCentral(watson6LBFGSCentralTestStart()).Evaluations
-	for cap := 0; cap < needed; cap += 1 + cap/16 {
+	for cap := 0; cap < needed; cap++ {
+		if cap >= 64 && cap&(cap-1) != 0 && cap != needed-1 {
+			continue
+		}
 		limits := Watson6LBFGSCentralDefaultLimits()
 		limits.Evaluations = cap
 		r := Watson6LBFGSCentralWithLimits(watson6LBFGSCentralTestStart(), limits)
@@ -45,7 +48,7 @@ func TestWatson6LBFGSCentralRespectsEvaluationCap(t *testing.T) {
 func BenchmarkWatson6LBFGSCentral(b *testing.B) {
 	var r Watson6LBFGSCentralResult
 	b.ReportAllocs()
-	for b.Loop() {
+	for i := 0; i < b.N; i++ {
 		r = Watson6LBFGSCentral(watson6LBFGSCentralTestStart())
 	}
 	b.ReportMetric(float64(r.Evaluations), "evaluations/op")

@@ -10,18 +10,20 @@ type Watson9BFGSAnalyticStatus uint8
 const (
 	// Watson9BFGSAnalyticGradientSmall: the largest gradient component fell to the gradient limit: converged.
 	Watson9BFGSAnalyticGradientSmall Watson9BFGSAnalyticStatus = iota + 1
-	// Watson9BFGSAnalyticStepTiny: the last step was at most the step limit relative to ‖x‖∞ + 1: converged.
+	// Watson9BFGSAnalyticStepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f while f was flat to the accuracy of the gradient (always so with finite differences): converged.
 	Watson9BFGSAnalyticStepTiny
 	// Watson9BFGSAnalyticOutOfIterations: the iteration limit came first.
 	Watson9BFGSAnalyticOutOfIterations
 	// Watson9BFGSAnalyticOutOfEvaluations: the next objective call would have exceeded the evaluation cap.
 	Watson9BFGSAnalyticOutOfEvaluations
-	// Watson9BFGSAnalyticNoAcceptableStep: no trial of the line search met the step rule within its trials.
+	// Watson9BFGSAnalyticNoAcceptableStep: no trial of the line search met the step rule at a finite point within its trials.
 	Watson9BFGSAnalyticNoAcceptableStep
 	// Watson9BFGSAnalyticNonFiniteStart: x0 or the objective at x0 is NaN or ±Inf.
 	Watson9BFGSAnalyticNonFiniteStart
 	// Watson9BFGSAnalyticNonFiniteGradient: a gradient component became NaN or ±Inf.
 	Watson9BFGSAnalyticNonFiniteGradient
+	// Watson9BFGSAnalyticNoDecrease: no step longer than the step limit decreased f, and f rose about as fast as the analytic gradient said it would fall: the gradient is probably wrong (see the generated gradient test).
+	Watson9BFGSAnalyticNoDecrease
 )
 
 // String describes the status in a few words.
@@ -41,6 +43,8 @@ func (s Watson9BFGSAnalyticStatus) String() string {
 		return "non-finite start"
 	case Watson9BFGSAnalyticNonFiniteGradient:
 		return "non-finite gradient"
+	case Watson9BFGSAnalyticNoDecrease:
+		return "no decrease"
 	default:
 		return "unknown status"
 	}
@@ -63,7 +67,7 @@ type Watson9BFGSAnalyticResult struct {
 // Watson9BFGSAnalyticLimits are the stop limits of one run. Pass them to Watson9BFGSAnalyticWithLimits to change them at run time; Watson9BFGSAnalyticDefaultLimits returns the spec's.
 type Watson9BFGSAnalyticLimits struct {
 	Gradient    float64 // stop when the largest |∂f/∂xᵢ| is at most this
-	Step        float64 // stop when the largest |Δxᵢ| is at most this·(‖x‖∞ + 1)
+	Step        float64 // stop when every |Δxᵢ| is at most this·(|xᵢ| + 1)
 	Iterations  int     // most accepted steps
 	Evaluations int     // hard cap on objective calls, finite differences included; never exceeded
 }
@@ -84,7 +88,7 @@ func Watson9BFGSAnalyticDefaultLimits() Watson9BFGSAnalyticLimits {
 // Step rule wolfe: bracket and zoom until sufficient decrease and the curvature condition hold.
 // Derivative analytic: the user's own gradient function (spec key `gradient`); costs no objective calls.
 // Constants: initial 1.0, c1 0.0001, c2 0.9, at most 40 trials per line search.
-// Default stop: largest gradient component ≤ 1e-08, step ≤ 1e-14·(‖x‖∞ + 1), 5000 iterations, 200000 objective calls.
+// Default stop: largest gradient component ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
 //
 // Worst case: 200000 objective calls (the evaluation cap; the iteration limit alone would allow 200001). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
@@ -121,9 +125,11 @@ const (
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
 //  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged);
+//     steps shorter than the step limit are left to try (converged when
+//     f was flat along d or the gradient is a difference, else no
+//     decrease);
 //  5. move, refresh the gradient, let the direction learn from the step;
-//  6. stop when the step is at most lim.Step·(‖x‖∞ + 1).
+//  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
 //
 // Before every objective call it checks that lim.Evaluations leaves room
 // for it, so the cap is never exceeded. A NaN or ±Inf at the start or in a
@@ -161,7 +167,7 @@ func watson9BFGSAnalyticMinimize(x0 [9]float64, lim Watson9BFGSAnalyticLimits) w
 			return out
 		}
 		if out.iterations > 0 {
-			if watson9BFGSAnalyticMaxAbs(&s) <= lim.Step*(watson9BFGSAnalyticMaxAbs(&x)+1) {
+			if watson9BFGSAnalyticStepWithin(&s, &x, lim.Step) {
 				out.status = Watson9BFGSAnalyticStepTiny
 				return out
 			}
@@ -173,7 +179,7 @@ func watson9BFGSAnalyticMinimize(x0 [9]float64, lim Watson9BFGSAnalyticLimits) w
 		}
 		dir.compute(&g, &d)
 		now := watson9BFGSAnalyticDot(&g, &d)
-		if !(now < 0) {
+		if !(now < 0) || !watson9BFGSAnalyticFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
 			dir.compute(&g, &d)
 			now = watson9BFGSAnalyticDot(&g, &d)
@@ -182,7 +188,7 @@ func watson9BFGSAnalyticMinimize(x0 [9]float64, lim Watson9BFGSAnalyticLimits) w
 		if out.iterations > 0 {
 			first = dir.firstTrial(t, slope, now)
 		}
-		tiny := lim.Step * (watson9BFGSAnalyticMaxAbs(&x) + 1) / watson9BFGSAnalyticMaxAbs(&d) // steps t ≤ tiny pass the step test
+		tiny := watson9BFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
 		found := watson9BFGSAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt)
 		out.evaluations += found.calls
 		switch found.end {
@@ -192,13 +198,27 @@ func watson9BFGSAnalyticMinimize(x0 [9]float64, lim Watson9BFGSAnalyticLimits) w
 			out.status = Watson9BFGSAnalyticNoAcceptableStep
 			return out
 		case watson9BFGSAnalyticSearchTiny:
-			out.status = Watson9BFGSAnalyticStepTiny
+			// Converged to the step limit when f was flat along d to the
+			// accuracy available (see watson9BFGSAnalyticFlatTrial), and always with finite
+			// differences: their error, not the true slope, then steers d,
+			// so x is stationary to the accuracy of the differences. With
+			// an analytic gradient that f contradicts, it is not.
+			out.status = Watson9BFGSAnalyticNoDecrease
+			if found.flat || watson9BFGSAnalyticDerivativeCost > 0 {
+				out.status = Watson9BFGSAnalyticStepTiny
+			}
+			return out
+		}
+		if !watson9BFGSAnalyticFiniteVec(&xt) {
+			out.status = Watson9BFGSAnalyticNoAcceptableStep // the accepted trial overflowed x
 			return out
 		}
 		if !found.gradient {
 			if out.evaluations+watson9BFGSAnalyticDerivativeCost > lim.Evaluations {
-				out.x, out.f = xt, found.value // keep the better point even without its gradient
-				out.iterations++
+				if found.value < fx { // keep a better point even without its gradient
+					out.x, out.f = xt, found.value
+					out.iterations++
+				}
 				return out
 			}
 			watson9BFGSAnalyticDerivative(&xt, found.value, &gt)
@@ -328,13 +348,14 @@ func watson9BFGSAnalyticDot(a, b *[9]float64) float64 {
 
 // watson9BFGSAnalyticCurvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
 // update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
-// as (sᵀy)² > u·(sᵀs)(yᵀy) with u the unit roundoff, so that the updated
+// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
+// that float32 does not overflow, with u the unit roundoff, so that the updated
 // matrix stays positive definite and well conditioned (Nocedal & Wright
 // 2006, §6.1, condition 6.7; the relative threshold √u·‖s‖‖y‖ is from
 // Dennis & Schnabel 1983, Algorithm A9.4.1, recalled from memory).
 func watson9BFGSAnalyticCurvatureSafe(s, y *[9]float64) bool {
 	sy := watson9BFGSAnalyticDot(s, y)
-	return sy > 0 && sy*sy > watson9BFGSAnalyticUnitRoundoff*watson9BFGSAnalyticDot(s, s)*watson9BFGSAnalyticDot(y, y)
+	return sy > 0 && (sy/watson9BFGSAnalyticDot(s, s))*(sy/watson9BFGSAnalyticDot(y, y)) > watson9BFGSAnalyticUnitRoundoff
 }
 
 // watson9BFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
@@ -354,6 +375,32 @@ func watson9BFGSAnalyticAbs(v float64) float64 {
 		return -v
 	}
 	return v
+}
+
+// watson9BFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func watson9BFGSAnalyticStepWithin(s, x *[9]float64, tol float64) bool {
+	for i := range s {
+		if !(watson9BFGSAnalyticAbs(s[i]) <= tol*(watson9BFGSAnalyticAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
+}
+
+// watson9BFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
+// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+func watson9BFGSAnalyticTinyStep(x, d *[9]float64, tol float64) float64 {
+	tiny := float64(-1)
+	for i := range x {
+		if d[i] != 0 {
+			if t := tol * (watson9BFGSAnalyticAbs(x[i]) + 1) / watson9BFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+	}
+	return tiny
 }
 
 // watson9BFGSAnalyticLineSearch finds a step meeting the Wolfe conditions
@@ -383,22 +430,18 @@ func watson9BFGSAnalyticLineSearch(x *[9]float64, fx float64, d *[9]float64, slo
 	var high watson9BFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [9]float64                                                   // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	flat := false // whether a trial failing sufficient decrease found f flat
 	t := first
 	calls := 0
 	for trial := 0; trial < watson9BFGSAnalyticStepTrials; trial++ {
 		if bracketed && watson9BFGSAnalyticAbs(high.step-low.step) <= tiny {
 			// The bracket is below the step limit: take low when it
-			// decreased f; else x is converged to the step limit, unless
-			// f was not finite there.
+			// decreased f; else no step decreased f, unless f was not
+			// finite there.
 			if low.step == 0 {
-				return watson9BFGSAnalyticLineResult{calls: calls, end: watson9BFGSAnalyticTinyOrExhausted(watson9BFGSAnalyticFinite(high.value))}
+				return watson9BFGSAnalyticLineResult{calls: calls, flat: flat, end: watson9BFGSAnalyticTinyOrExhausted(watson9BFGSAnalyticFinite(high.value))}
 			}
-			watson9BFGSAnalyticMoveTo(xt, x, low.step, d)
-			*gt = lowGradient
-			return watson9BFGSAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: watson9BFGSAnalyticSearchAccepted}
-		}
-		if !bracketed && t <= tiny {
-			return watson9BFGSAnalyticLineResult{calls: calls, end: watson9BFGSAnalyticSearchTiny}
+			return watson9BFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
 		}
 		if calls >= budget {
 			return watson9BFGSAnalyticLineResult{calls: calls, end: watson9BFGSAnalyticSearchOutOfBudget}
@@ -409,6 +452,7 @@ func watson9BFGSAnalyticLineSearch(x *[9]float64, fx float64, d *[9]float64, slo
 		previous := low
 		if !watson9BFGSAnalyticFinite(current.value) || current.value > fx+watson9BFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
+			flat = flat || watson9BFGSAnalyticFinite(current.value) && watson9BFGSAnalyticFlatTrial(fx, current.value, t, slope)
 		} else {
 			if calls+watson9BFGSAnalyticDerivativeCost > budget {
 				return watson9BFGSAnalyticLineResult{calls: calls, end: watson9BFGSAnalyticSearchOutOfBudget}
@@ -435,6 +479,9 @@ func watson9BFGSAnalyticLineSearch(x *[9]float64, fx float64, d *[9]float64, slo
 			t = watson9BFGSAnalyticExpandTrial(&previous, &current)
 		}
 	}
+	if low.step > 0 {
+		return watson9BFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+	}
 	return watson9BFGSAnalyticLineResult{calls: calls, end: watson9BFGSAnalyticSearchExhausted}
 }
 
@@ -444,6 +491,7 @@ type watson9BFGSAnalyticLineResult struct {
 	value    float64                      // f(x + t·d)
 	calls    int                          // objective calls spent, finite differences included
 	gradient bool                         // whether gt holds ∇f(x + t·d) already
+	flat     bool                         // whether a failed trial found f flat along d (see watson9BFGSAnalyticFlatTrial)
 	end      watson9BFGSAnalyticSearchEnd // how the search ended
 }
 
@@ -457,10 +505,10 @@ type watson9BFGSAnalyticLinePoint struct {
 	hasSlope           bool
 }
 
-// watson9BFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: x is
-// converged to the step limit when the last failure was a finite increase
-// of f, but a non-finite value says nothing about f near x, so the search
-// has simply failed.
+// watson9BFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: no
+// decrease was found when the last failure was a finite value, but a
+// non-finite value says nothing about f near x, so the search has simply
+// failed.
 func watson9BFGSAnalyticTinyOrExhausted(lastFinite bool) watson9BFGSAnalyticSearchEnd {
 	if lastFinite {
 		return watson9BFGSAnalyticSearchTiny
@@ -472,14 +520,46 @@ const (
 	watson9BFGSAnalyticSearchAccepted    watson9BFGSAnalyticSearchEnd = iota // a step met the rule
 	watson9BFGSAnalyticSearchExhausted                                       // watson9BFGSAnalyticStepTrials trials met none
 	watson9BFGSAnalyticSearchOutOfBudget                                     // the evaluation cap came first
-	watson9BFGSAnalyticSearchTiny                                            // every step longer than tiny failed: x is converged to the step limit
+	watson9BFGSAnalyticSearchTiny                                            // every step longer than tiny failed to decrease f
 )
+
+// watson9BFGSAnalyticAcceptLow ends a Wolfe search with its best trial, which met sufficient
+// decrease though not the curvature condition, when the bracket collapsed
+// or the trials ran out. Its gradient was kept in lowGradient. (When the
+// budget runs out the search ends without a step instead, so that a capped
+// run follows the uncapped run's path up to the cap.)
+func watson9BFGSAnalyticAcceptLow(x, d *[9]float64, low *watson9BFGSAnalyticLinePoint, lowGradient *[9]float64, calls int, xt, gt *[9]float64) watson9BFGSAnalyticLineResult {
+	watson9BFGSAnalyticMoveTo(xt, x, low.step, d)
+	*gt = *lowGradient
+	return watson9BFGSAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: watson9BFGSAnalyticSearchAccepted}
+}
 
 // watson9BFGSAnalyticMoveTo sets out = x + t·d.
 func watson9BFGSAnalyticMoveTo(out, x *[9]float64, t float64, d *[9]float64) {
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
+}
+
+// watson9BFGSAnalyticFlatTrial reports whether a failed trial t found f flat along d, to
+// the accuracy the gradient and f allow, so that no decrease can be
+// expected from any step:
+//
+//   - the change f(x + t·d) − f(x) = ft − fx is at most half the
+//     first-order prediction t·∇fᵀd in size: near a minimizer whose
+//     gradient is known only roughly (differences), the true slope along
+//     d is below that accuracy. A wrong gradient makes f rise about as
+//     fast as it predicts a fall, and never passes. This is the ratio of
+//     actual to predicted reduction of trust-region methods (Nocedal &
+//     Wright 2006, eq. 4.4);
+//   - or the prediction itself, |t·∇fᵀd|, is below the rounding unit of
+//     f, u·|f(x)|: no change that small can show in floating point, so x
+//     is a minimizer to working precision (Dennis & Schnabel 1983, §7.2,
+//     relate the gradient test to the precision of f; recalled from
+//     memory).
+func watson9BFGSAnalyticFlatTrial(fx, ft, t, slope float64) bool {
+	predicted := watson9BFGSAnalyticAbs(t * slope)
+	return watson9BFGSAnalyticAbs(ft-fx) <= 0.5*predicted || predicted <= watson9BFGSAnalyticUnitRoundoff*watson9BFGSAnalyticAbs(fx)
 }
 
 // watson9BFGSAnalyticCurvatureMet is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)
@@ -537,7 +617,16 @@ func watson9BFGSAnalyticSquareRoot(v float64) float64 {
 // watson9BFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
 // either order.
 func watson9BFGSAnalyticClampBetween(v, a, b float64) float64 {
-	return max(min(a, b), min(max(a, b), v))
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
 }
 
 // watson9BFGSAnalyticExpandTrial picks a larger trial after current met sufficient decrease

@@ -10,18 +10,20 @@ type Watson9CGAnalyticStatus uint8
 const (
 	// Watson9CGAnalyticGradientSmall: the largest gradient component fell to the gradient limit: converged.
 	Watson9CGAnalyticGradientSmall Watson9CGAnalyticStatus = iota + 1
-	// Watson9CGAnalyticStepTiny: the last step was at most the step limit relative to ‖x‖∞ + 1: converged.
+	// Watson9CGAnalyticStepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f while f was flat to the accuracy of the gradient (always so with finite differences): converged.
 	Watson9CGAnalyticStepTiny
 	// Watson9CGAnalyticOutOfIterations: the iteration limit came first.
 	Watson9CGAnalyticOutOfIterations
 	// Watson9CGAnalyticOutOfEvaluations: the next objective call would have exceeded the evaluation cap.
 	Watson9CGAnalyticOutOfEvaluations
-	// Watson9CGAnalyticNoAcceptableStep: no trial of the line search met the step rule within its trials.
+	// Watson9CGAnalyticNoAcceptableStep: no trial of the line search met the step rule at a finite point within its trials.
 	Watson9CGAnalyticNoAcceptableStep
 	// Watson9CGAnalyticNonFiniteStart: x0 or the objective at x0 is NaN or ±Inf.
 	Watson9CGAnalyticNonFiniteStart
 	// Watson9CGAnalyticNonFiniteGradient: a gradient component became NaN or ±Inf.
 	Watson9CGAnalyticNonFiniteGradient
+	// Watson9CGAnalyticNoDecrease: no step longer than the step limit decreased f, and f rose about as fast as the analytic gradient said it would fall: the gradient is probably wrong (see the generated gradient test).
+	Watson9CGAnalyticNoDecrease
 )
 
 // String describes the status in a few words.
@@ -41,6 +43,8 @@ func (s Watson9CGAnalyticStatus) String() string {
 		return "non-finite start"
 	case Watson9CGAnalyticNonFiniteGradient:
 		return "non-finite gradient"
+	case Watson9CGAnalyticNoDecrease:
+		return "no decrease"
 	default:
 		return "unknown status"
 	}
@@ -63,7 +67,7 @@ type Watson9CGAnalyticResult struct {
 // Watson9CGAnalyticLimits are the stop limits of one run. Pass them to Watson9CGAnalyticWithLimits to change them at run time; Watson9CGAnalyticDefaultLimits returns the spec's.
 type Watson9CGAnalyticLimits struct {
 	Gradient    float64 // stop when the largest |∂f/∂xᵢ| is at most this
-	Step        float64 // stop when the largest |Δxᵢ| is at most this·(‖x‖∞ + 1)
+	Step        float64 // stop when every |Δxᵢ| is at most this·(|xᵢ| + 1)
 	Iterations  int     // most accepted steps
 	Evaluations int     // hard cap on objective calls, finite differences included; never exceeded
 }
@@ -84,7 +88,7 @@ func Watson9CGAnalyticDefaultLimits() Watson9CGAnalyticLimits {
 // Step rule strong-wolfe: bracket and zoom until sufficient decrease and the strong curvature condition hold.
 // Derivative analytic: the user's own gradient function (spec key `gradient`); costs no objective calls.
 // Constants: initial 1.0, c1 0.0001, c2 0.1, at most 40 trials per line search.
-// Default stop: largest gradient component ≤ 1e-08, step ≤ 1e-14·(‖x‖∞ + 1), 5000 iterations, 200000 objective calls.
+// Default stop: largest gradient component ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
 //
 // Worst case: 200000 objective calls (the evaluation cap; the iteration limit alone would allow 200001). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
@@ -106,11 +110,12 @@ func Watson9CGAnalyticWithLimits(x0 [9]float64, limits Watson9CGAnalyticLimits) 
 
 // Tunables of Watson9CGAnalytic from mgh.toml; the kernels below read them.
 const (
-	watson9CGAnalyticStepInitial    = 1.0    // step.initial
-	watson9CGAnalyticStepDecrease   = 0.0001 // step.decrease (c1)
-	watson9CGAnalyticStepCurvature  = 0.1    // step.curvature (c2)
-	watson9CGAnalyticStepTrials     = 40     // step.trials
-	watson9CGAnalyticDerivativeCost = 0      // objective calls per gradient
+	watson9CGAnalyticStepInitial    = 1.0                    // step.initial
+	watson9CGAnalyticStepDecrease   = 0.0001                 // step.decrease (c1)
+	watson9CGAnalyticStepCurvature  = 0.1                    // step.curvature (c2)
+	watson9CGAnalyticStepTrials     = 40                     // step.trials
+	watson9CGAnalyticDerivativeCost = 0                      // objective calls per gradient
+	watson9CGAnalyticUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
 )
 
 // watson9CGAnalyticMinimize runs the descent loop from x0 within lim:
@@ -120,9 +125,11 @@ const (
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
 //  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged);
+//     steps shorter than the step limit are left to try (converged when
+//     f was flat along d or the gradient is a difference, else no
+//     decrease);
 //  5. move, refresh the gradient, let the direction learn from the step;
-//  6. stop when the step is at most lim.Step·(‖x‖∞ + 1).
+//  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
 //
 // Before every objective call it checks that lim.Evaluations leaves room
 // for it, so the cap is never exceeded. A NaN or ±Inf at the start or in a
@@ -160,7 +167,7 @@ func watson9CGAnalyticMinimize(x0 [9]float64, lim Watson9CGAnalyticLimits) watso
 			return out
 		}
 		if out.iterations > 0 {
-			if watson9CGAnalyticMaxAbs(&s) <= lim.Step*(watson9CGAnalyticMaxAbs(&x)+1) {
+			if watson9CGAnalyticStepWithin(&s, &x, lim.Step) {
 				out.status = Watson9CGAnalyticStepTiny
 				return out
 			}
@@ -172,7 +179,7 @@ func watson9CGAnalyticMinimize(x0 [9]float64, lim Watson9CGAnalyticLimits) watso
 		}
 		dir.compute(&g, &d)
 		now := watson9CGAnalyticDot(&g, &d)
-		if !(now < 0) {
+		if !(now < 0) || !watson9CGAnalyticFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
 			dir.compute(&g, &d)
 			now = watson9CGAnalyticDot(&g, &d)
@@ -181,7 +188,7 @@ func watson9CGAnalyticMinimize(x0 [9]float64, lim Watson9CGAnalyticLimits) watso
 		if out.iterations > 0 {
 			first = dir.firstTrial(t, slope, now)
 		}
-		tiny := lim.Step * (watson9CGAnalyticMaxAbs(&x) + 1) / watson9CGAnalyticMaxAbs(&d) // steps t ≤ tiny pass the step test
+		tiny := watson9CGAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
 		found := watson9CGAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt)
 		out.evaluations += found.calls
 		switch found.end {
@@ -191,13 +198,27 @@ func watson9CGAnalyticMinimize(x0 [9]float64, lim Watson9CGAnalyticLimits) watso
 			out.status = Watson9CGAnalyticNoAcceptableStep
 			return out
 		case watson9CGAnalyticSearchTiny:
-			out.status = Watson9CGAnalyticStepTiny
+			// Converged to the step limit when f was flat along d to the
+			// accuracy available (see watson9CGAnalyticFlatTrial), and always with finite
+			// differences: their error, not the true slope, then steers d,
+			// so x is stationary to the accuracy of the differences. With
+			// an analytic gradient that f contradicts, it is not.
+			out.status = Watson9CGAnalyticNoDecrease
+			if found.flat || watson9CGAnalyticDerivativeCost > 0 {
+				out.status = Watson9CGAnalyticStepTiny
+			}
+			return out
+		}
+		if !watson9CGAnalyticFiniteVec(&xt) {
+			out.status = Watson9CGAnalyticNoAcceptableStep // the accepted trial overflowed x
 			return out
 		}
 		if !found.gradient {
 			if out.evaluations+watson9CGAnalyticDerivativeCost > lim.Evaluations {
-				out.x, out.f = xt, found.value // keep the better point even without its gradient
-				out.iterations++
+				if found.value < fx { // keep a better point even without its gradient
+					out.x, out.f = xt, found.value
+					out.iterations++
+				}
 				return out
 			}
 			watson9CGAnalyticDerivative(&xt, found.value, &gt)
@@ -277,7 +298,7 @@ func (s *watson9CGAnalyticDirection) reset() {
 func (s *watson9CGAnalyticDirection) compute(g, d *[9]float64) {
 	var beta float64
 	if s.steps > 0 && s.steps < 9 && s.squared > 0 {
-		beta = max(watson9CGAnalyticDot(g, &s.change)/s.squared, 0) // N&W eq. 5.45 (PR+)
+		beta = watson9CGAnalyticLarger(watson9CGAnalyticDot(g, &s.change)/s.squared, 0) // N&W eq. 5.45 (PR+)
 	}
 	for i := range d {
 		d[i] = -g[i] + beta*s.previous[i] // N&W eq. 5.44
@@ -296,6 +317,16 @@ func (s *watson9CGAnalyticDirection) update(step, change *[9]float64) {
 
 func (s *watson9CGAnalyticDirection) firstTrial(t, slope, now float64) float64 {
 	return watson9CGAnalyticScaledTrial(t, slope, now)
+}
+
+// watson9CGAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func watson9CGAnalyticLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
 }
 
 // watson9CGAnalyticDot returns aᵀb.
@@ -338,6 +369,32 @@ func watson9CGAnalyticAbs(v float64) float64 {
 	return v
 }
 
+// watson9CGAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func watson9CGAnalyticStepWithin(s, x *[9]float64, tol float64) bool {
+	for i := range s {
+		if !(watson9CGAnalyticAbs(s[i]) <= tol*(watson9CGAnalyticAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
+}
+
+// watson9CGAnalyticTinyStep returns the longest t for which the step t·d from x passes the
+// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+func watson9CGAnalyticTinyStep(x, d *[9]float64, tol float64) float64 {
+	tiny := float64(-1)
+	for i := range x {
+		if d[i] != 0 {
+			if t := tol * (watson9CGAnalyticAbs(x[i]) + 1) / watson9CGAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+	}
+	return tiny
+}
+
 // watson9CGAnalyticLineSearch finds a step meeting the Wolfe conditions
 //
 //	f(x + t·d) ≤ f(x) + c1·t·∇f(x)ᵀd                (sufficient decrease)
@@ -365,22 +422,18 @@ func watson9CGAnalyticLineSearch(x *[9]float64, fx float64, d *[9]float64, slope
 	var high watson9CGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [9]float64                                                 // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	flat := false // whether a trial failing sufficient decrease found f flat
 	t := first
 	calls := 0
 	for trial := 0; trial < watson9CGAnalyticStepTrials; trial++ {
 		if bracketed && watson9CGAnalyticAbs(high.step-low.step) <= tiny {
 			// The bracket is below the step limit: take low when it
-			// decreased f; else x is converged to the step limit, unless
-			// f was not finite there.
+			// decreased f; else no step decreased f, unless f was not
+			// finite there.
 			if low.step == 0 {
-				return watson9CGAnalyticLineResult{calls: calls, end: watson9CGAnalyticTinyOrExhausted(watson9CGAnalyticFinite(high.value))}
+				return watson9CGAnalyticLineResult{calls: calls, flat: flat, end: watson9CGAnalyticTinyOrExhausted(watson9CGAnalyticFinite(high.value))}
 			}
-			watson9CGAnalyticMoveTo(xt, x, low.step, d)
-			*gt = lowGradient
-			return watson9CGAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: watson9CGAnalyticSearchAccepted}
-		}
-		if !bracketed && t <= tiny {
-			return watson9CGAnalyticLineResult{calls: calls, end: watson9CGAnalyticSearchTiny}
+			return watson9CGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
 		}
 		if calls >= budget {
 			return watson9CGAnalyticLineResult{calls: calls, end: watson9CGAnalyticSearchOutOfBudget}
@@ -391,6 +444,7 @@ func watson9CGAnalyticLineSearch(x *[9]float64, fx float64, d *[9]float64, slope
 		previous := low
 		if !watson9CGAnalyticFinite(current.value) || current.value > fx+watson9CGAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
+			flat = flat || watson9CGAnalyticFinite(current.value) && watson9CGAnalyticFlatTrial(fx, current.value, t, slope)
 		} else {
 			if calls+watson9CGAnalyticDerivativeCost > budget {
 				return watson9CGAnalyticLineResult{calls: calls, end: watson9CGAnalyticSearchOutOfBudget}
@@ -417,6 +471,9 @@ func watson9CGAnalyticLineSearch(x *[9]float64, fx float64, d *[9]float64, slope
 			t = watson9CGAnalyticExpandTrial(&previous, &current)
 		}
 	}
+	if low.step > 0 {
+		return watson9CGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+	}
 	return watson9CGAnalyticLineResult{calls: calls, end: watson9CGAnalyticSearchExhausted}
 }
 
@@ -426,6 +483,7 @@ type watson9CGAnalyticLineResult struct {
 	value    float64                    // f(x + t·d)
 	calls    int                        // objective calls spent, finite differences included
 	gradient bool                       // whether gt holds ∇f(x + t·d) already
+	flat     bool                       // whether a failed trial found f flat along d (see watson9CGAnalyticFlatTrial)
 	end      watson9CGAnalyticSearchEnd // how the search ended
 }
 
@@ -439,10 +497,10 @@ type watson9CGAnalyticLinePoint struct {
 	hasSlope           bool
 }
 
-// watson9CGAnalyticTinyOrExhausted ends a search that has run below the step limit: x is
-// converged to the step limit when the last failure was a finite increase
-// of f, but a non-finite value says nothing about f near x, so the search
-// has simply failed.
+// watson9CGAnalyticTinyOrExhausted ends a search that has run below the step limit: no
+// decrease was found when the last failure was a finite value, but a
+// non-finite value says nothing about f near x, so the search has simply
+// failed.
 func watson9CGAnalyticTinyOrExhausted(lastFinite bool) watson9CGAnalyticSearchEnd {
 	if lastFinite {
 		return watson9CGAnalyticSearchTiny
@@ -454,14 +512,46 @@ const (
 	watson9CGAnalyticSearchAccepted    watson9CGAnalyticSearchEnd = iota // a step met the rule
 	watson9CGAnalyticSearchExhausted                                     // watson9CGAnalyticStepTrials trials met none
 	watson9CGAnalyticSearchOutOfBudget                                   // the evaluation cap came first
-	watson9CGAnalyticSearchTiny                                          // every step longer than tiny failed: x is converged to the step limit
+	watson9CGAnalyticSearchTiny                                          // every step longer than tiny failed to decrease f
 )
+
+// watson9CGAnalyticAcceptLow ends a Wolfe search with its best trial, which met sufficient
+// decrease though not the curvature condition, when the bracket collapsed
+// or the trials ran out. Its gradient was kept in lowGradient. (When the
+// budget runs out the search ends without a step instead, so that a capped
+// run follows the uncapped run's path up to the cap.)
+func watson9CGAnalyticAcceptLow(x, d *[9]float64, low *watson9CGAnalyticLinePoint, lowGradient *[9]float64, calls int, xt, gt *[9]float64) watson9CGAnalyticLineResult {
+	watson9CGAnalyticMoveTo(xt, x, low.step, d)
+	*gt = *lowGradient
+	return watson9CGAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: watson9CGAnalyticSearchAccepted}
+}
 
 // watson9CGAnalyticMoveTo sets out = x + t·d.
 func watson9CGAnalyticMoveTo(out, x *[9]float64, t float64, d *[9]float64) {
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
+}
+
+// watson9CGAnalyticFlatTrial reports whether a failed trial t found f flat along d, to
+// the accuracy the gradient and f allow, so that no decrease can be
+// expected from any step:
+//
+//   - the change f(x + t·d) − f(x) = ft − fx is at most half the
+//     first-order prediction t·∇fᵀd in size: near a minimizer whose
+//     gradient is known only roughly (differences), the true slope along
+//     d is below that accuracy. A wrong gradient makes f rise about as
+//     fast as it predicts a fall, and never passes. This is the ratio of
+//     actual to predicted reduction of trust-region methods (Nocedal &
+//     Wright 2006, eq. 4.4);
+//   - or the prediction itself, |t·∇fᵀd|, is below the rounding unit of
+//     f, u·|f(x)|: no change that small can show in floating point, so x
+//     is a minimizer to working precision (Dennis & Schnabel 1983, §7.2,
+//     relate the gradient test to the precision of f; recalled from
+//     memory).
+func watson9CGAnalyticFlatTrial(fx, ft, t, slope float64) bool {
+	predicted := watson9CGAnalyticAbs(t * slope)
+	return watson9CGAnalyticAbs(ft-fx) <= 0.5*predicted || predicted <= watson9CGAnalyticUnitRoundoff*watson9CGAnalyticAbs(fx)
 }
 
 // watson9CGAnalyticCurvatureMet is the strong Wolfe curvature condition
@@ -519,7 +609,16 @@ func watson9CGAnalyticSquareRoot(v float64) float64 {
 // watson9CGAnalyticClampBetween returns v limited to the interval with ends a and b, in
 // either order.
 func watson9CGAnalyticClampBetween(v, a, b float64) float64 {
-	return max(min(a, b), min(max(a, b), v))
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
 }
 
 // watson9CGAnalyticExpandTrial picks a larger trial after current met sufficient decrease

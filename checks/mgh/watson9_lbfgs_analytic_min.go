@@ -10,18 +10,20 @@ type Watson9LBFGSAnalyticStatus uint8
 const (
 	// Watson9LBFGSAnalyticGradientSmall: the largest gradient component fell to the gradient limit: converged.
 	Watson9LBFGSAnalyticGradientSmall Watson9LBFGSAnalyticStatus = iota + 1
-	// Watson9LBFGSAnalyticStepTiny: the last step was at most the step limit relative to ‖x‖∞ + 1: converged.
+	// Watson9LBFGSAnalyticStepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f while f was flat to the accuracy of the gradient (always so with finite differences): converged.
 	Watson9LBFGSAnalyticStepTiny
 	// Watson9LBFGSAnalyticOutOfIterations: the iteration limit came first.
 	Watson9LBFGSAnalyticOutOfIterations
 	// Watson9LBFGSAnalyticOutOfEvaluations: the next objective call would have exceeded the evaluation cap.
 	Watson9LBFGSAnalyticOutOfEvaluations
-	// Watson9LBFGSAnalyticNoAcceptableStep: no trial of the line search met the step rule within its trials.
+	// Watson9LBFGSAnalyticNoAcceptableStep: no trial of the line search met the step rule at a finite point within its trials.
 	Watson9LBFGSAnalyticNoAcceptableStep
 	// Watson9LBFGSAnalyticNonFiniteStart: x0 or the objective at x0 is NaN or ±Inf.
 	Watson9LBFGSAnalyticNonFiniteStart
 	// Watson9LBFGSAnalyticNonFiniteGradient: a gradient component became NaN or ±Inf.
 	Watson9LBFGSAnalyticNonFiniteGradient
+	// Watson9LBFGSAnalyticNoDecrease: no step longer than the step limit decreased f, and f rose about as fast as the analytic gradient said it would fall: the gradient is probably wrong (see the generated gradient test).
+	Watson9LBFGSAnalyticNoDecrease
 )
 
 // String describes the status in a few words.
@@ -41,6 +43,8 @@ func (s Watson9LBFGSAnalyticStatus) String() string {
 		return "non-finite start"
 	case Watson9LBFGSAnalyticNonFiniteGradient:
 		return "non-finite gradient"
+	case Watson9LBFGSAnalyticNoDecrease:
+		return "no decrease"
 	default:
 		return "unknown status"
 	}
@@ -63,7 +67,7 @@ type Watson9LBFGSAnalyticResult struct {
 // Watson9LBFGSAnalyticLimits are the stop limits of one run. Pass them to Watson9LBFGSAnalyticWithLimits to change them at run time; Watson9LBFGSAnalyticDefaultLimits returns the spec's.
 type Watson9LBFGSAnalyticLimits struct {
 	Gradient    float64 // stop when the largest |∂f/∂xᵢ| is at most this
-	Step        float64 // stop when the largest |Δxᵢ| is at most this·(‖x‖∞ + 1)
+	Step        float64 // stop when every |Δxᵢ| is at most this·(|xᵢ| + 1)
 	Iterations  int     // most accepted steps
 	Evaluations int     // hard cap on objective calls, finite differences included; never exceeded
 }
@@ -84,7 +88,7 @@ func Watson9LBFGSAnalyticDefaultLimits() Watson9LBFGSAnalyticLimits {
 // Step rule wolfe: bracket and zoom until sufficient decrease and the curvature condition hold.
 // Derivative analytic: the user's own gradient function (spec key `gradient`); costs no objective calls.
 // Constants: initial 1.0, c1 0.0001, c2 0.9, at most 40 trials per line search, memory 5 pairs.
-// Default stop: largest gradient component ≤ 1e-08, step ≤ 1e-14·(‖x‖∞ + 1), 5000 iterations, 200000 objective calls.
+// Default stop: largest gradient component ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
 //
 // Worst case: 200000 objective calls (the evaluation cap; the iteration limit alone would allow 200001). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
@@ -122,9 +126,11 @@ const (
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
 //  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged);
+//     steps shorter than the step limit are left to try (converged when
+//     f was flat along d or the gradient is a difference, else no
+//     decrease);
 //  5. move, refresh the gradient, let the direction learn from the step;
-//  6. stop when the step is at most lim.Step·(‖x‖∞ + 1).
+//  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
 //
 // Before every objective call it checks that lim.Evaluations leaves room
 // for it, so the cap is never exceeded. A NaN or ±Inf at the start or in a
@@ -162,7 +168,7 @@ func watson9LBFGSAnalyticMinimize(x0 [9]float64, lim Watson9LBFGSAnalyticLimits)
 			return out
 		}
 		if out.iterations > 0 {
-			if watson9LBFGSAnalyticMaxAbs(&s) <= lim.Step*(watson9LBFGSAnalyticMaxAbs(&x)+1) {
+			if watson9LBFGSAnalyticStepWithin(&s, &x, lim.Step) {
 				out.status = Watson9LBFGSAnalyticStepTiny
 				return out
 			}
@@ -174,7 +180,7 @@ func watson9LBFGSAnalyticMinimize(x0 [9]float64, lim Watson9LBFGSAnalyticLimits)
 		}
 		dir.compute(&g, &d)
 		now := watson9LBFGSAnalyticDot(&g, &d)
-		if !(now < 0) {
+		if !(now < 0) || !watson9LBFGSAnalyticFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
 			dir.compute(&g, &d)
 			now = watson9LBFGSAnalyticDot(&g, &d)
@@ -183,7 +189,7 @@ func watson9LBFGSAnalyticMinimize(x0 [9]float64, lim Watson9LBFGSAnalyticLimits)
 		if out.iterations > 0 {
 			first = dir.firstTrial(t, slope, now)
 		}
-		tiny := lim.Step * (watson9LBFGSAnalyticMaxAbs(&x) + 1) / watson9LBFGSAnalyticMaxAbs(&d) // steps t ≤ tiny pass the step test
+		tiny := watson9LBFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
 		found := watson9LBFGSAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt)
 		out.evaluations += found.calls
 		switch found.end {
@@ -193,13 +199,27 @@ func watson9LBFGSAnalyticMinimize(x0 [9]float64, lim Watson9LBFGSAnalyticLimits)
 			out.status = Watson9LBFGSAnalyticNoAcceptableStep
 			return out
 		case watson9LBFGSAnalyticSearchTiny:
-			out.status = Watson9LBFGSAnalyticStepTiny
+			// Converged to the step limit when f was flat along d to the
+			// accuracy available (see watson9LBFGSAnalyticFlatTrial), and always with finite
+			// differences: their error, not the true slope, then steers d,
+			// so x is stationary to the accuracy of the differences. With
+			// an analytic gradient that f contradicts, it is not.
+			out.status = Watson9LBFGSAnalyticNoDecrease
+			if found.flat || watson9LBFGSAnalyticDerivativeCost > 0 {
+				out.status = Watson9LBFGSAnalyticStepTiny
+			}
+			return out
+		}
+		if !watson9LBFGSAnalyticFiniteVec(&xt) {
+			out.status = Watson9LBFGSAnalyticNoAcceptableStep // the accepted trial overflowed x
 			return out
 		}
 		if !found.gradient {
 			if out.evaluations+watson9LBFGSAnalyticDerivativeCost > lim.Evaluations {
-				out.x, out.f = xt, found.value // keep the better point even without its gradient
-				out.iterations++
+				if found.value < fx { // keep a better point even without its gradient
+					out.x, out.f = xt, found.value
+					out.iterations++
+				}
 				return out
 			}
 			watson9LBFGSAnalyticDerivative(&xt, found.value, &gt)
@@ -271,7 +291,7 @@ type watson9LBFGSAnalyticDirection struct {
 	s, y   [watson9LBFGSAnalyticLbfgsMemory][9]float64
 	rho    [watson9LBFGSAnalyticLbfgsMemory]float64
 	newest int // index of the newest pair
-	count  int
+	count  int // pairs held, at most watson9LBFGSAnalyticLbfgsMemory
 }
 
 func (s *watson9LBFGSAnalyticDirection) reset() {
@@ -356,13 +376,14 @@ func watson9LBFGSAnalyticNegate(out, x *[9]float64) {
 
 // watson9LBFGSAnalyticCurvatureSafe reports whether the pair (s, y) may enter a quasi-Newton
 // update: sᵀy must be positive and not negligible against ‖s‖‖y‖, tested
-// as (sᵀy)² > u·(sᵀs)(yᵀy) with u the unit roundoff, so that the updated
+// as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
+// that float32 does not overflow, with u the unit roundoff, so that the updated
 // matrix stays positive definite and well conditioned (Nocedal & Wright
 // 2006, §6.1, condition 6.7; the relative threshold √u·‖s‖‖y‖ is from
 // Dennis & Schnabel 1983, Algorithm A9.4.1, recalled from memory).
 func watson9LBFGSAnalyticCurvatureSafe(s, y *[9]float64) bool {
 	sy := watson9LBFGSAnalyticDot(s, y)
-	return sy > 0 && sy*sy > watson9LBFGSAnalyticUnitRoundoff*watson9LBFGSAnalyticDot(s, s)*watson9LBFGSAnalyticDot(y, y)
+	return sy > 0 && (sy/watson9LBFGSAnalyticDot(s, s))*(sy/watson9LBFGSAnalyticDot(y, y)) > watson9LBFGSAnalyticUnitRoundoff
 }
 
 // watson9LBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
@@ -382,6 +403,32 @@ func watson9LBFGSAnalyticAbs(v float64) float64 {
 		return -v
 	}
 	return v
+}
+
+// watson9LBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func watson9LBFGSAnalyticStepWithin(s, x *[9]float64, tol float64) bool {
+	for i := range s {
+		if !(watson9LBFGSAnalyticAbs(s[i]) <= tol*(watson9LBFGSAnalyticAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
+}
+
+// watson9LBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
+// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+func watson9LBFGSAnalyticTinyStep(x, d *[9]float64, tol float64) float64 {
+	tiny := float64(-1)
+	for i := range x {
+		if d[i] != 0 {
+			if t := tol * (watson9LBFGSAnalyticAbs(x[i]) + 1) / watson9LBFGSAnalyticAbs(d[i]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+	}
+	return tiny
 }
 
 // watson9LBFGSAnalyticLineSearch finds a step meeting the Wolfe conditions
@@ -411,22 +458,18 @@ func watson9LBFGSAnalyticLineSearch(x *[9]float64, fx float64, d *[9]float64, sl
 	var high watson9LBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [9]float64                                                    // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	flat := false // whether a trial failing sufficient decrease found f flat
 	t := first
 	calls := 0
 	for trial := 0; trial < watson9LBFGSAnalyticStepTrials; trial++ {
 		if bracketed && watson9LBFGSAnalyticAbs(high.step-low.step) <= tiny {
 			// The bracket is below the step limit: take low when it
-			// decreased f; else x is converged to the step limit, unless
-			// f was not finite there.
+			// decreased f; else no step decreased f, unless f was not
+			// finite there.
 			if low.step == 0 {
-				return watson9LBFGSAnalyticLineResult{calls: calls, end: watson9LBFGSAnalyticTinyOrExhausted(watson9LBFGSAnalyticFinite(high.value))}
+				return watson9LBFGSAnalyticLineResult{calls: calls, flat: flat, end: watson9LBFGSAnalyticTinyOrExhausted(watson9LBFGSAnalyticFinite(high.value))}
 			}
-			watson9LBFGSAnalyticMoveTo(xt, x, low.step, d)
-			*gt = lowGradient
-			return watson9LBFGSAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: watson9LBFGSAnalyticSearchAccepted}
-		}
-		if !bracketed && t <= tiny {
-			return watson9LBFGSAnalyticLineResult{calls: calls, end: watson9LBFGSAnalyticSearchTiny}
+			return watson9LBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
 		}
 		if calls >= budget {
 			return watson9LBFGSAnalyticLineResult{calls: calls, end: watson9LBFGSAnalyticSearchOutOfBudget}
@@ -437,6 +480,7 @@ func watson9LBFGSAnalyticLineSearch(x *[9]float64, fx float64, d *[9]float64, sl
 		previous := low
 		if !watson9LBFGSAnalyticFinite(current.value) || current.value > fx+watson9LBFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
+			flat = flat || watson9LBFGSAnalyticFinite(current.value) && watson9LBFGSAnalyticFlatTrial(fx, current.value, t, slope)
 		} else {
 			if calls+watson9LBFGSAnalyticDerivativeCost > budget {
 				return watson9LBFGSAnalyticLineResult{calls: calls, end: watson9LBFGSAnalyticSearchOutOfBudget}
@@ -463,6 +507,9 @@ func watson9LBFGSAnalyticLineSearch(x *[9]float64, fx float64, d *[9]float64, sl
 			t = watson9LBFGSAnalyticExpandTrial(&previous, &current)
 		}
 	}
+	if low.step > 0 {
+		return watson9LBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+	}
 	return watson9LBFGSAnalyticLineResult{calls: calls, end: watson9LBFGSAnalyticSearchExhausted}
 }
 
@@ -472,6 +519,7 @@ type watson9LBFGSAnalyticLineResult struct {
 	value    float64                       // f(x + t·d)
 	calls    int                           // objective calls spent, finite differences included
 	gradient bool                          // whether gt holds ∇f(x + t·d) already
+	flat     bool                          // whether a failed trial found f flat along d (see watson9LBFGSAnalyticFlatTrial)
 	end      watson9LBFGSAnalyticSearchEnd // how the search ended
 }
 
@@ -485,10 +533,10 @@ type watson9LBFGSAnalyticLinePoint struct {
 	hasSlope           bool
 }
 
-// watson9LBFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: x is
-// converged to the step limit when the last failure was a finite increase
-// of f, but a non-finite value says nothing about f near x, so the search
-// has simply failed.
+// watson9LBFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: no
+// decrease was found when the last failure was a finite value, but a
+// non-finite value says nothing about f near x, so the search has simply
+// failed.
 func watson9LBFGSAnalyticTinyOrExhausted(lastFinite bool) watson9LBFGSAnalyticSearchEnd {
 	if lastFinite {
 		return watson9LBFGSAnalyticSearchTiny
@@ -500,14 +548,46 @@ const (
 	watson9LBFGSAnalyticSearchAccepted    watson9LBFGSAnalyticSearchEnd = iota // a step met the rule
 	watson9LBFGSAnalyticSearchExhausted                                        // watson9LBFGSAnalyticStepTrials trials met none
 	watson9LBFGSAnalyticSearchOutOfBudget                                      // the evaluation cap came first
-	watson9LBFGSAnalyticSearchTiny                                             // every step longer than tiny failed: x is converged to the step limit
+	watson9LBFGSAnalyticSearchTiny                                             // every step longer than tiny failed to decrease f
 )
+
+// watson9LBFGSAnalyticAcceptLow ends a Wolfe search with its best trial, which met sufficient
+// decrease though not the curvature condition, when the bracket collapsed
+// or the trials ran out. Its gradient was kept in lowGradient. (When the
+// budget runs out the search ends without a step instead, so that a capped
+// run follows the uncapped run's path up to the cap.)
+func watson9LBFGSAnalyticAcceptLow(x, d *[9]float64, low *watson9LBFGSAnalyticLinePoint, lowGradient *[9]float64, calls int, xt, gt *[9]float64) watson9LBFGSAnalyticLineResult {
+	watson9LBFGSAnalyticMoveTo(xt, x, low.step, d)
+	*gt = *lowGradient
+	return watson9LBFGSAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: watson9LBFGSAnalyticSearchAccepted}
+}
 
 // watson9LBFGSAnalyticMoveTo sets out = x + t·d.
 func watson9LBFGSAnalyticMoveTo(out, x *[9]float64, t float64, d *[9]float64) {
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
+}
+
+// watson9LBFGSAnalyticFlatTrial reports whether a failed trial t found f flat along d, to
+// the accuracy the gradient and f allow, so that no decrease can be
+// expected from any step:
+//
+//   - the change f(x + t·d) − f(x) = ft − fx is at most half the
+//     first-order prediction t·∇fᵀd in size: near a minimizer whose
+//     gradient is known only roughly (differences), the true slope along
+//     d is below that accuracy. A wrong gradient makes f rise about as
+//     fast as it predicts a fall, and never passes. This is the ratio of
+//     actual to predicted reduction of trust-region methods (Nocedal &
+//     Wright 2006, eq. 4.4);
+//   - or the prediction itself, |t·∇fᵀd|, is below the rounding unit of
+//     f, u·|f(x)|: no change that small can show in floating point, so x
+//     is a minimizer to working precision (Dennis & Schnabel 1983, §7.2,
+//     relate the gradient test to the precision of f; recalled from
+//     memory).
+func watson9LBFGSAnalyticFlatTrial(fx, ft, t, slope float64) bool {
+	predicted := watson9LBFGSAnalyticAbs(t * slope)
+	return watson9LBFGSAnalyticAbs(ft-fx) <= 0.5*predicted || predicted <= watson9LBFGSAnalyticUnitRoundoff*watson9LBFGSAnalyticAbs(fx)
 }
 
 // watson9LBFGSAnalyticCurvatureMet is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)
@@ -565,7 +645,16 @@ func watson9LBFGSAnalyticSquareRoot(v float64) float64 {
 // watson9LBFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
 // either order.
 func watson9LBFGSAnalyticClampBetween(v, a, b float64) float64 {
-	return max(min(a, b), min(max(a, b), v))
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
 }
 
 // watson9LBFGSAnalyticExpandTrial picks a larger trial after current met sufficient decrease

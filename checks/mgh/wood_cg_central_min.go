@@ -10,18 +10,20 @@ type WoodCGCentralStatus uint8
 const (
 	// WoodCGCentralGradientSmall: the largest gradient component fell to the gradient limit: converged.
 	WoodCGCentralGradientSmall WoodCGCentralStatus = iota + 1
-	// WoodCGCentralStepTiny: the last step was at most the step limit relative to ‖x‖∞ + 1: converged.
+	// WoodCGCentralStepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f while f was flat to the accuracy of the gradient (always so with finite differences): converged.
 	WoodCGCentralStepTiny
 	// WoodCGCentralOutOfIterations: the iteration limit came first.
 	WoodCGCentralOutOfIterations
 	// WoodCGCentralOutOfEvaluations: the next objective call would have exceeded the evaluation cap.
 	WoodCGCentralOutOfEvaluations
-	// WoodCGCentralNoAcceptableStep: no trial of the line search met the step rule within its trials.
+	// WoodCGCentralNoAcceptableStep: no trial of the line search met the step rule at a finite point within its trials.
 	WoodCGCentralNoAcceptableStep
 	// WoodCGCentralNonFiniteStart: x0 or the objective at x0 is NaN or ±Inf.
 	WoodCGCentralNonFiniteStart
 	// WoodCGCentralNonFiniteGradient: a gradient component became NaN or ±Inf.
 	WoodCGCentralNonFiniteGradient
+	// WoodCGCentralNoDecrease: no step longer than the step limit decreased f, and f rose about as fast as the analytic gradient said it would fall: the gradient is probably wrong (see the generated gradient test).
+	WoodCGCentralNoDecrease
 )
 
 // String describes the status in a few words.
@@ -41,6 +43,8 @@ func (s WoodCGCentralStatus) String() string {
 		return "non-finite start"
 	case WoodCGCentralNonFiniteGradient:
 		return "non-finite gradient"
+	case WoodCGCentralNoDecrease:
+		return "no decrease"
 	default:
 		return "unknown status"
 	}
@@ -63,7 +67,7 @@ type WoodCGCentralResult struct {
 // WoodCGCentralLimits are the stop limits of one run. Pass them to WoodCGCentralWithLimits to change them at run time; WoodCGCentralDefaultLimits returns the spec's.
 type WoodCGCentralLimits struct {
 	Gradient    float64 // stop when the largest |∂f/∂xᵢ| is at most this
-	Step        float64 // stop when the largest |Δxᵢ| is at most this·(‖x‖∞ + 1)
+	Step        float64 // stop when every |Δxᵢ| is at most this·(|xᵢ| + 1)
 	Iterations  int     // most accepted steps
 	Evaluations int     // hard cap on objective calls, finite differences included; never exceeded
 }
@@ -84,7 +88,7 @@ func WoodCGCentralDefaultLimits() WoodCGCentralLimits {
 // Step rule strong-wolfe: bracket and zoom until sufficient decrease and the strong curvature condition hold.
 // Derivative central: central differences: 2·dim objective calls per gradient, error O(u^(2/3)).
 // Constants: initial 1.0, c1 0.0001, c2 0.1, at most 40 trials per line search.
-// Default stop: largest gradient component ≤ 1e-08, step ≤ 1e-14·(‖x‖∞ + 1), 5000 iterations, 200000 objective calls.
+// Default stop: largest gradient component ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
 //
 // Worst case: 200000 objective calls, 8 of them per gradient (the evaluation cap; the iteration limit alone would allow 1800009). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
@@ -106,12 +110,13 @@ func WoodCGCentralWithLimits(x0 [4]float64, limits WoodCGCentralLimits) WoodCGCe
 
 // Tunables of WoodCGCentral from mgh.toml; the kernels below read them.
 const (
-	woodCGCentralStepInitial    = 1.0                   // step.initial
-	woodCGCentralStepDecrease   = 0.0001                // step.decrease (c1)
-	woodCGCentralStepCurvature  = 0.1                   // step.curvature (c2)
-	woodCGCentralStepTrials     = 40                    // step.trials
-	woodCGCentralDerivativeCost = 8                     // objective calls per gradient
-	woodCGCentralCentralScale   = 4.806217383937352e-06 // ∛u, central-difference step scale (Nocedal & Wright 2006, §8.1)
+	woodCGCentralStepInitial    = 1.0                    // step.initial
+	woodCGCentralStepDecrease   = 0.0001                 // step.decrease (c1)
+	woodCGCentralStepCurvature  = 0.1                    // step.curvature (c2)
+	woodCGCentralStepTrials     = 40                     // step.trials
+	woodCGCentralDerivativeCost = 8                      // objective calls per gradient
+	woodCGCentralUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
+	woodCGCentralCentralScale   = 4.806217383937352e-06  // ∛u, central-difference step scale (Nocedal & Wright 2006, §8.1)
 )
 
 // woodCGCentralMinimize runs the descent loop from x0 within lim:
@@ -121,9 +126,11 @@ const (
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
 //  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged);
+//     steps shorter than the step limit are left to try (converged when
+//     f was flat along d or the gradient is a difference, else no
+//     decrease);
 //  5. move, refresh the gradient, let the direction learn from the step;
-//  6. stop when the step is at most lim.Step·(‖x‖∞ + 1).
+//  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
 //
 // Before every objective call it checks that lim.Evaluations leaves room
 // for it, so the cap is never exceeded. A NaN or ±Inf at the start or in a
@@ -161,7 +168,7 @@ func woodCGCentralMinimize(x0 [4]float64, lim WoodCGCentralLimits) woodCGCentral
 			return out
 		}
 		if out.iterations > 0 {
-			if woodCGCentralMaxAbs(&s) <= lim.Step*(woodCGCentralMaxAbs(&x)+1) {
+			if woodCGCentralStepWithin(&s, &x, lim.Step) {
 				out.status = WoodCGCentralStepTiny
 				return out
 			}
@@ -173,7 +180,7 @@ func woodCGCentralMinimize(x0 [4]float64, lim WoodCGCentralLimits) woodCGCentral
 		}
 		dir.compute(&g, &d)
 		now := woodCGCentralDot(&g, &d)
-		if !(now < 0) {
+		if !(now < 0) || !woodCGCentralFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
 			dir.compute(&g, &d)
 			now = woodCGCentralDot(&g, &d)
@@ -182,7 +189,7 @@ func woodCGCentralMinimize(x0 [4]float64, lim WoodCGCentralLimits) woodCGCentral
 		if out.iterations > 0 {
 			first = dir.firstTrial(t, slope, now)
 		}
-		tiny := lim.Step * (woodCGCentralMaxAbs(&x) + 1) / woodCGCentralMaxAbs(&d) // steps t ≤ tiny pass the step test
+		tiny := woodCGCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
 		found := woodCGCentralLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt)
 		out.evaluations += found.calls
 		switch found.end {
@@ -192,13 +199,27 @@ func woodCGCentralMinimize(x0 [4]float64, lim WoodCGCentralLimits) woodCGCentral
 			out.status = WoodCGCentralNoAcceptableStep
 			return out
 		case woodCGCentralSearchTiny:
-			out.status = WoodCGCentralStepTiny
+			// Converged to the step limit when f was flat along d to the
+			// accuracy available (see woodCGCentralFlatTrial), and always with finite
+			// differences: their error, not the true slope, then steers d,
+			// so x is stationary to the accuracy of the differences. With
+			// an analytic gradient that f contradicts, it is not.
+			out.status = WoodCGCentralNoDecrease
+			if found.flat || woodCGCentralDerivativeCost > 0 {
+				out.status = WoodCGCentralStepTiny
+			}
+			return out
+		}
+		if !woodCGCentralFiniteVec(&xt) {
+			out.status = WoodCGCentralNoAcceptableStep // the accepted trial overflowed x
 			return out
 		}
 		if !found.gradient {
 			if out.evaluations+woodCGCentralDerivativeCost > lim.Evaluations {
-				out.x, out.f = xt, found.value // keep the better point even without its gradient
-				out.iterations++
+				if found.value < fx { // keep a better point even without its gradient
+					out.x, out.f = xt, found.value
+					out.iterations++
+				}
 				return out
 			}
 			woodCGCentralDerivative(&xt, found.value, &gt)
@@ -253,7 +274,7 @@ func woodCGCentralDerivative(x *[4]float64, fx float64, g *[4]float64) {
 	probe := *x
 	for i := range probe {
 		xi := probe[i]
-		h := woodCGCentralCentralScale * max(1, woodCGCentralAbs(xi)) // N&W §8.1: h = ∛u·max(1,|x_i|)
+		h := woodCGCentralCentralScale * woodCGCentralLarger(1, woodCGCentralAbs(xi)) // N&W §8.1: h = ∛u·max(1,|x_i|)
 		up := xi + h
 		down := xi - h
 		probe[i] = up
@@ -263,6 +284,16 @@ func woodCGCentralDerivative(x *[4]float64, fx float64, g *[4]float64) {
 		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
 		probe[i] = xi
 	}
+}
+
+// woodCGCentralLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func woodCGCentralLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
 }
 
 // woodCGCentralAbs returns |v|.
@@ -303,7 +334,7 @@ func (s *woodCGCentralDirection) reset() {
 func (s *woodCGCentralDirection) compute(g, d *[4]float64) {
 	var beta float64
 	if s.steps > 0 && s.steps < 4 && s.squared > 0 {
-		beta = max(woodCGCentralDot(g, &s.change)/s.squared, 0) // N&W eq. 5.45 (PR+)
+		beta = woodCGCentralLarger(woodCGCentralDot(g, &s.change)/s.squared, 0) // N&W eq. 5.45 (PR+)
 	}
 	for i := range d {
 		d[i] = -g[i] + beta*s.previous[i] // N&W eq. 5.44
@@ -356,6 +387,32 @@ func woodCGCentralMaxAbs(x *[4]float64) float64 {
 	return m
 }
 
+// woodCGCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func woodCGCentralStepWithin(s, x *[4]float64, tol float64) bool {
+	for i := range s {
+		if !(woodCGCentralAbs(s[i]) <= tol*(woodCGCentralAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
+}
+
+// woodCGCentralTinyStep returns the longest t for which the step t·d from x passes the
+// step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
+func woodCGCentralTinyStep(x, d *[4]float64, tol float64) float64 {
+	tiny := float64(-1)
+	for i := range x {
+		if d[i] != 0 {
+			if t := tol * (woodCGCentralAbs(x[i]) + 1) / woodCGCentralAbs(d[i]); tiny < 0 || t < tiny {
+				tiny = t
+			}
+		}
+	}
+	return tiny
+}
+
 // woodCGCentralLineSearch finds a step meeting the Wolfe conditions
 //
 //	f(x + t·d) ≤ f(x) + c1·t·∇f(x)ᵀd                (sufficient decrease)
@@ -383,22 +440,18 @@ func woodCGCentralLineSearch(x *[4]float64, fx float64, d *[4]float64, slope, fi
 	var high woodCGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                             // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	flat := false // whether a trial failing sufficient decrease found f flat
 	t := first
 	calls := 0
 	for trial := 0; trial < woodCGCentralStepTrials; trial++ {
 		if bracketed && woodCGCentralAbs(high.step-low.step) <= tiny {
 			// The bracket is below the step limit: take low when it
-			// decreased f; else x is converged to the step limit, unless
-			// f was not finite there.
+			// decreased f; else no step decreased f, unless f was not
+			// finite there.
 			if low.step == 0 {
-				return woodCGCentralLineResult{calls: calls, end: woodCGCentralTinyOrExhausted(woodCGCentralFinite(high.value))}
+				return woodCGCentralLineResult{calls: calls, flat: flat, end: woodCGCentralTinyOrExhausted(woodCGCentralFinite(high.value))}
 			}
-			woodCGCentralMoveTo(xt, x, low.step, d)
-			*gt = lowGradient
-			return woodCGCentralLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: woodCGCentralSearchAccepted}
-		}
-		if !bracketed && t <= tiny {
-			return woodCGCentralLineResult{calls: calls, end: woodCGCentralSearchTiny}
+			return woodCGCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
 		}
 		if calls >= budget {
 			return woodCGCentralLineResult{calls: calls, end: woodCGCentralSearchOutOfBudget}
@@ -409,6 +462,7 @@ func woodCGCentralLineSearch(x *[4]float64, fx float64, d *[4]float64, slope, fi
 		previous := low
 		if !woodCGCentralFinite(current.value) || current.value > fx+woodCGCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
+			flat = flat || woodCGCentralFinite(current.value) && woodCGCentralFlatTrial(fx, current.value, t, slope)
 		} else {
 			if calls+woodCGCentralDerivativeCost > budget {
 				return woodCGCentralLineResult{calls: calls, end: woodCGCentralSearchOutOfBudget}
@@ -435,6 +489,9 @@ func woodCGCentralLineSearch(x *[4]float64, fx float64, d *[4]float64, slope, fi
 			t = woodCGCentralExpandTrial(&previous, &current)
 		}
 	}
+	if low.step > 0 {
+		return woodCGCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+	}
 	return woodCGCentralLineResult{calls: calls, end: woodCGCentralSearchExhausted}
 }
 
@@ -444,6 +501,7 @@ type woodCGCentralLineResult struct {
 	value    float64                // f(x + t·d)
 	calls    int                    // objective calls spent, finite differences included
 	gradient bool                   // whether gt holds ∇f(x + t·d) already
+	flat     bool                   // whether a failed trial found f flat along d (see woodCGCentralFlatTrial)
 	end      woodCGCentralSearchEnd // how the search ended
 }
 
@@ -457,10 +515,10 @@ type woodCGCentralLinePoint struct {
 	hasSlope           bool
 }
 
-// woodCGCentralTinyOrExhausted ends a search that has run below the step limit: x is
-// converged to the step limit when the last failure was a finite increase
-// of f, but a non-finite value says nothing about f near x, so the search
-// has simply failed.
+// woodCGCentralTinyOrExhausted ends a search that has run below the step limit: no
+// decrease was found when the last failure was a finite value, but a
+// non-finite value says nothing about f near x, so the search has simply
+// failed.
 func woodCGCentralTinyOrExhausted(lastFinite bool) woodCGCentralSearchEnd {
 	if lastFinite {
 		return woodCGCentralSearchTiny
@@ -472,14 +530,46 @@ const (
 	woodCGCentralSearchAccepted    woodCGCentralSearchEnd = iota // a step met the rule
 	woodCGCentralSearchExhausted                                 // woodCGCentralStepTrials trials met none
 	woodCGCentralSearchOutOfBudget                               // the evaluation cap came first
-	woodCGCentralSearchTiny                                      // every step longer than tiny failed: x is converged to the step limit
+	woodCGCentralSearchTiny                                      // every step longer than tiny failed to decrease f
 )
+
+// woodCGCentralAcceptLow ends a Wolfe search with its best trial, which met sufficient
+// decrease though not the curvature condition, when the bracket collapsed
+// or the trials ran out. Its gradient was kept in lowGradient. (When the
+// budget runs out the search ends without a step instead, so that a capped
+// run follows the uncapped run's path up to the cap.)
+func woodCGCentralAcceptLow(x, d *[4]float64, low *woodCGCentralLinePoint, lowGradient *[4]float64, calls int, xt, gt *[4]float64) woodCGCentralLineResult {
+	woodCGCentralMoveTo(xt, x, low.step, d)
+	*gt = *lowGradient
+	return woodCGCentralLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: woodCGCentralSearchAccepted}
+}
 
 // woodCGCentralMoveTo sets out = x + t·d.
 func woodCGCentralMoveTo(out, x *[4]float64, t float64, d *[4]float64) {
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
+}
+
+// woodCGCentralFlatTrial reports whether a failed trial t found f flat along d, to
+// the accuracy the gradient and f allow, so that no decrease can be
+// expected from any step:
+//
+//   - the change f(x + t·d) − f(x) = ft − fx is at most half the
+//     first-order prediction t·∇fᵀd in size: near a minimizer whose
+//     gradient is known only roughly (differences), the true slope along
+//     d is below that accuracy. A wrong gradient makes f rise about as
+//     fast as it predicts a fall, and never passes. This is the ratio of
+//     actual to predicted reduction of trust-region methods (Nocedal &
+//     Wright 2006, eq. 4.4);
+//   - or the prediction itself, |t·∇fᵀd|, is below the rounding unit of
+//     f, u·|f(x)|: no change that small can show in floating point, so x
+//     is a minimizer to working precision (Dennis & Schnabel 1983, §7.2,
+//     relate the gradient test to the precision of f; recalled from
+//     memory).
+func woodCGCentralFlatTrial(fx, ft, t, slope float64) bool {
+	predicted := woodCGCentralAbs(t * slope)
+	return woodCGCentralAbs(ft-fx) <= 0.5*predicted || predicted <= woodCGCentralUnitRoundoff*woodCGCentralAbs(fx)
 }
 
 // woodCGCentralCurvatureMet is the strong Wolfe curvature condition
@@ -537,7 +627,16 @@ func woodCGCentralSquareRoot(v float64) float64 {
 // woodCGCentralClampBetween returns v limited to the interval with ends a and b, in
 // either order.
 func woodCGCentralClampBetween(v, a, b float64) float64 {
-	return max(min(a, b), min(max(a, b), v))
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
 }
 
 // woodCGCentralExpandTrial picks a larger trial after current met sufficient decrease

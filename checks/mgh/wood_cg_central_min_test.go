@@ -28,10 +28,13 @@ func TestWoodCGCentralAllocatesNothing(t *testing.T) {
 	}
 }
 
-// TestWoodCGCentralRespectsEvaluationCap caps the run below what it needs and checks that the cap is never exceeded and that the run says why it stopped.
+// TestWoodCGCentralRespectsEvaluationCap caps the run below what it needs (0–63, powers of two, and one short) and checks that the cap is never exceeded and that the run says why it stopped.
 func TestWoodCGCentralRespectsEvaluationCap(t *testing.T) {
 	needed := WoodCGCentral(woodCGCentralTestStart()).Evaluations
-	for cap := 0; cap < needed; cap += 1 + cap/16 {
+	for cap := 0; cap < needed; cap++ {
+		if cap >= 64 && cap&(cap-1) != 0 && cap != needed-1 {
+			continue
+		}
 		limits := WoodCGCentralDefaultLimits()
 		limits.Evaluations = cap
 		r := WoodCGCentralWithLimits(woodCGCentralTestStart(), limits)
@@ -45,7 +48,7 @@ func TestWoodCGCentralRespectsEvaluationCap(t *testing.T) {
 func BenchmarkWoodCGCentral(b *testing.B) {
 	var r WoodCGCentralResult
 	b.ReportAllocs()
-	for b.Loop() {
+	for i := 0; i < b.N; i++ {
 		r = WoodCGCentral(woodCGCentralTestStart())
 	}
 	b.ReportMetric(float64(r.Evaluations), "evaluations/op")

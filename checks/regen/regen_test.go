@@ -185,6 +185,9 @@ func mghSpecText() []byte {
 				fmt.Fprintf(&b, "start = %s\n", numbers(p.Start))
 				fmt.Fprintf(&b, "\n[minimizer.step]\nrule = %q\n", mgh.StepRule(dir))
 				fmt.Fprintf(&b, "\n[minimizer.stop]\niterations = %d\nevaluations = %d\n", mgh.StopIterations, mgh.StopEvaluations)
+				if end, ok := mgh.ExpectedEnds[mgh.MinimizerName(p, dir, der)]; ok {
+					fmt.Fprintf(&b, "\n[minimizer.expect] # excluded in mgh_test.go: the run is known to end this way\nstatus = %q\n", end)
+				}
 			}
 		}
 	}

@@ -8,7 +8,7 @@ type CalibrateStatus uint8
 const (
 	// CalibrateGradientSmall: the largest gradient component fell to the gradient limit: converged.
 	CalibrateGradientSmall CalibrateStatus = iota + 1
-	// CalibrateStepTiny: every component of the last step taken was at most the step limit times |xᵢ| + 1: converged.
+	// CalibrateStepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f while f was flat to the accuracy of the gradient (always so with finite differences): converged.
 	CalibrateStepTiny
 	// CalibrateOutOfIterations: the iteration limit came first.
 	CalibrateOutOfIterations
@@ -20,7 +20,7 @@ const (
 	CalibrateNonFiniteStart
 	// CalibrateNonFiniteGradient: a gradient component became NaN or ±Inf.
 	CalibrateNonFiniteGradient
-	// CalibrateNoDecrease: no step longer than the step limit decreased f: X may be a minimizer that the gradient limit cannot confirm (finite differences are noisier than the limit) or the gradient may be wrong.
+	// CalibrateNoDecrease: no step longer than the step limit decreased f, and f rose about as fast as the analytic gradient said it would fall: the gradient is probably wrong (see the generated gradient test).
 	CalibrateNoDecrease
 )
 
@@ -123,7 +123,9 @@ const (
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
 //  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (no decrease);
+//     steps shorter than the step limit are left to try (converged when
+//     f was flat along d or the gradient is a difference, else no
+//     decrease);
 //  5. move, refresh the gradient, let the direction learn from the step;
 //  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
 //
@@ -194,7 +196,15 @@ func calibrateMinimize(x0 [2]float64, lim CalibrateLimits) calibrateOutcome {
 			out.status = CalibrateNoAcceptableStep
 			return out
 		case calibrateSearchTiny:
+			// Converged to the step limit when f was flat along d to the
+			// accuracy available (see calibrateFlatTrial), and always with finite
+			// differences: their error, not the true slope, then steers d,
+			// so x is stationary to the accuracy of the differences. With
+			// an analytic gradient that f contradicts, it is not.
 			out.status = CalibrateNoDecrease
+			if found.flat || calibrateDerivativeCost > 0 {
+				out.status = CalibrateStepTiny
+			}
 			return out
 		}
 		if !calibrateFiniteVec(&xt) {
@@ -407,9 +417,10 @@ func calibrateTinyStep(x, d *[2]float64, tol float64) float64 {
 func calibrateLineSearch(x *[2]float64, fx float64, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64) calibrateLineResult {
 	t := first
 	var previous, fPrevious float64
+	flat := false
 	for trial := 0; trial < calibrateStepTrials; trial++ {
 		if trial > 0 && t <= tiny {
-			return calibrateLineResult{calls: trial, end: calibrateTinyOrExhausted(calibrateFinite(fPrevious))}
+			return calibrateLineResult{calls: trial, flat: flat, end: calibrateTinyOrExhausted(calibrateFinite(fPrevious))}
 		}
 		if trial >= budget {
 			return calibrateLineResult{calls: trial, end: calibrateSearchOutOfBudget}
@@ -419,6 +430,7 @@ func calibrateLineSearch(x *[2]float64, fx float64, d *[2]float64, slope, first,
 		if calibrateFinite(ft) && ft <= fx+calibrateStepDecrease*t*slope { // N&W eq. 3.4
 			return calibrateLineResult{step: t, value: ft, calls: trial + 1, end: calibrateSearchAccepted}
 		}
+		flat = flat || calibrateFinite(ft) && calibrateFlatTrial(fx, ft, t, slope)
 		t, previous, fPrevious = calibrateBacktrackTrial(fx, slope, t, ft, previous, fPrevious), t, ft
 	}
 	return calibrateLineResult{calls: calibrateStepTrials, end: calibrateSearchExhausted}
@@ -430,6 +442,7 @@ type calibrateLineResult struct {
 	value    float64            // f(x + t·d)
 	calls    int                // objective calls spent, finite differences included
 	gradient bool               // whether gt holds ∇f(x + t·d) already
+	flat     bool               // whether a failed trial found f flat along d (see calibrateFlatTrial)
 	end      calibrateSearchEnd // how the search ended
 }
 
@@ -459,6 +472,27 @@ func calibrateMoveTo(out, x *[2]float64, t float64, d *[2]float64) {
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
+}
+
+// calibrateFlatTrial reports whether a failed trial t found f flat along d, to
+// the accuracy the gradient and f allow, so that no decrease can be
+// expected from any step:
+//
+//   - the change f(x + t·d) − f(x) = ft − fx is at most half the
+//     first-order prediction t·∇fᵀd in size: near a minimizer whose
+//     gradient is known only roughly (differences), the true slope along
+//     d is below that accuracy. A wrong gradient makes f rise about as
+//     fast as it predicts a fall, and never passes. This is the ratio of
+//     actual to predicted reduction of trust-region methods (Nocedal &
+//     Wright 2006, eq. 4.4);
+//   - or the prediction itself, |t·∇fᵀd|, is below the rounding unit of
+//     f, u·|f(x)|: no change that small can show in floating point, so x
+//     is a minimizer to working precision (Dennis & Schnabel 1983, §7.2,
+//     relate the gradient test to the precision of f; recalled from
+//     memory).
+func calibrateFlatTrial(fx, ft, t, slope float64) bool {
+	predicted := calibrateAbs(t * slope)
+	return calibrateAbs(ft-fx) <= 0.5*predicted || predicted <= calibrateUnitRoundoff*calibrateAbs(fx)
 }
 
 // calibrateBacktrackTrial is t·calibrateStepShrink (Nocedal & Wright 2006, Algorithm 3.1).

@@ -10,7 +10,7 @@ type MinBowlStatus uint8
 const (
 	// MinBowlGradientSmall: the largest gradient component fell to the gradient limit: converged.
 	MinBowlGradientSmall MinBowlStatus = iota + 1
-	// MinBowlStepTiny: every component of the last step taken was at most the step limit times |xᵢ| + 1: converged.
+	// MinBowlStepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f while f was flat to the accuracy of the gradient (always so with finite differences): converged.
 	MinBowlStepTiny
 	// MinBowlOutOfIterations: the iteration limit came first.
 	MinBowlOutOfIterations
@@ -22,7 +22,7 @@ const (
 	MinBowlNonFiniteStart
 	// MinBowlNonFiniteGradient: a gradient component became NaN or ±Inf.
 	MinBowlNonFiniteGradient
-	// MinBowlNoDecrease: no step longer than the step limit decreased f: X may be a minimizer that the gradient limit cannot confirm (finite differences are noisier than the limit) or the gradient may be wrong.
+	// MinBowlNoDecrease: no step longer than the step limit decreased f, and f rose about as fast as the analytic gradient said it would fall: the gradient is probably wrong (see the generated gradient test).
 	MinBowlNoDecrease
 )
 
@@ -110,12 +110,13 @@ func MinBowlWithLimits(x0 [3]float32, limits MinBowlLimits) MinBowlResult {
 
 // Tunables of MinBowl from shapes.toml; the kernels below read them.
 const (
-	minBowlStepInitial    = 1.0            // step.initial
-	minBowlStepDecrease   = 0.0001         // step.decrease (c1)
-	minBowlStepCurvature  = 0.1            // step.curvature (c2)
-	minBowlStepTrials     = 40             // step.trials
-	minBowlDerivativeCost = 3              // objective calls per gradient
-	minBowlForwardScale   = 0.000244140625 // √u, forward-difference step scale (Nocedal & Wright 2006, §8.1)
+	minBowlStepInitial    = 1.0                   // step.initial
+	minBowlStepDecrease   = 0.0001                // step.decrease (c1)
+	minBowlStepCurvature  = 0.1                   // step.curvature (c2)
+	minBowlStepTrials     = 40                    // step.trials
+	minBowlDerivativeCost = 3                     // objective calls per gradient
+	minBowlUnitRoundoff   = 5.960464477539063e-08 // unit roundoff u of the float type
+	minBowlForwardScale   = 0.000244140625        // √u, forward-difference step scale (Nocedal & Wright 2006, §8.1)
 )
 
 // minBowlMinimize runs the descent loop from x0 within lim:
@@ -125,7 +126,9 @@ const (
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
 //  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (no decrease);
+//     steps shorter than the step limit are left to try (converged when
+//     f was flat along d or the gradient is a difference, else no
+//     decrease);
 //  5. move, refresh the gradient, let the direction learn from the step;
 //  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
 //
@@ -196,7 +199,15 @@ func minBowlMinimize(x0 [3]float32, lim MinBowlLimits) minBowlOutcome {
 			out.status = MinBowlNoAcceptableStep
 			return out
 		case minBowlSearchTiny:
+			// Converged to the step limit when f was flat along d to the
+			// accuracy available (see minBowlFlatTrial), and always with finite
+			// differences: their error, not the true slope, then steers d,
+			// so x is stationary to the accuracy of the differences. With
+			// an analytic gradient that f contradicts, it is not.
 			out.status = MinBowlNoDecrease
+			if found.flat || minBowlDerivativeCost > 0 {
+				out.status = MinBowlStepTiny
+			}
 			return out
 		}
 		if !minBowlFiniteVec(&xt) {
@@ -425,6 +436,7 @@ func minBowlLineSearch(x *[3]float32, fx float32, d *[3]float32, slope, first, t
 	var high minBowlLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float32                                       // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	flat := false // whether a trial failing sufficient decrease found f flat
 	t := first
 	calls := 0
 	for trial := 0; trial < minBowlStepTrials; trial++ {
@@ -433,14 +445,11 @@ func minBowlLineSearch(x *[3]float32, fx float32, d *[3]float32, slope, first, t
 			// decreased f; else no step decreased f, unless f was not
 			// finite there.
 			if low.step == 0 {
-				return minBowlLineResult{calls: calls, end: minBowlTinyOrExhausted(minBowlFinite(high.value))}
+				return minBowlLineResult{calls: calls, flat: flat, end: minBowlTinyOrExhausted(minBowlFinite(high.value))}
 			}
 			return minBowlAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
 		}
 		if calls >= budget {
-			if low.step > 0 {
-				return minBowlAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // keep the decrease already paid for
-			}
 			return minBowlLineResult{calls: calls, end: minBowlSearchOutOfBudget}
 		}
 		minBowlMoveTo(xt, x, t, d)
@@ -449,11 +458,9 @@ func minBowlLineSearch(x *[3]float32, fx float32, d *[3]float32, slope, first, t
 		previous := low
 		if !minBowlFinite(current.value) || current.value > fx+minBowlStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
+			flat = flat || minBowlFinite(current.value) && minBowlFlatTrial(fx, current.value, t, slope)
 		} else {
 			if calls+minBowlDerivativeCost > budget {
-				if low.step > 0 {
-					return minBowlAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
-				}
 				return minBowlLineResult{calls: calls, end: minBowlSearchOutOfBudget}
 			}
 			minBowlDerivative(xt, current.value, gt)
@@ -490,6 +497,7 @@ type minBowlLineResult struct {
 	value    float32          // f(x + t·d)
 	calls    int              // objective calls spent, finite differences included
 	gradient bool             // whether gt holds ∇f(x + t·d) already
+	flat     bool             // whether a failed trial found f flat along d (see minBowlFlatTrial)
 	end      minBowlSearchEnd // how the search ended
 }
 
@@ -522,8 +530,10 @@ const (
 )
 
 // minBowlAcceptLow ends a Wolfe search with its best trial, which met sufficient
-// decrease though not the curvature condition: the bracket collapsed, the
-// trials ran out or the budget did. Its gradient was kept in lowGradient.
+// decrease though not the curvature condition, when the bracket collapsed
+// or the trials ran out. Its gradient was kept in lowGradient. (When the
+// budget runs out the search ends without a step instead, so that a capped
+// run follows the uncapped run's path up to the cap.)
 func minBowlAcceptLow(x, d *[3]float32, low *minBowlLinePoint, lowGradient *[3]float32, calls int, xt, gt *[3]float32) minBowlLineResult {
 	minBowlMoveTo(xt, x, low.step, d)
 	*gt = *lowGradient
@@ -535,6 +545,27 @@ func minBowlMoveTo(out, x *[3]float32, t float32, d *[3]float32) {
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
+}
+
+// minBowlFlatTrial reports whether a failed trial t found f flat along d, to
+// the accuracy the gradient and f allow, so that no decrease can be
+// expected from any step:
+//
+//   - the change f(x + t·d) − f(x) = ft − fx is at most half the
+//     first-order prediction t·∇fᵀd in size: near a minimizer whose
+//     gradient is known only roughly (differences), the true slope along
+//     d is below that accuracy. A wrong gradient makes f rise about as
+//     fast as it predicts a fall, and never passes. This is the ratio of
+//     actual to predicted reduction of trust-region methods (Nocedal &
+//     Wright 2006, eq. 4.4);
+//   - or the prediction itself, |t·∇fᵀd|, is below the rounding unit of
+//     f, u·|f(x)|: no change that small can show in floating point, so x
+//     is a minimizer to working precision (Dennis & Schnabel 1983, §7.2,
+//     relate the gradient test to the precision of f; recalled from
+//     memory).
+func minBowlFlatTrial(fx, ft, t, slope float32) bool {
+	predicted := minBowlAbs(t * slope)
+	return minBowlAbs(ft-fx) <= 0.5*predicted || predicted <= minBowlUnitRoundoff*minBowlAbs(fx)
 }
 
 // minBowlCurvatureMet is the strong Wolfe curvature condition

@@ -10,7 +10,7 @@ type MinValleyStatus uint8
 const (
 	// MinValleyGradientSmall: the largest gradient component fell to the gradient limit: converged.
 	MinValleyGradientSmall MinValleyStatus = iota + 1
-	// MinValleyStepTiny: every component of the last step taken was at most the step limit times |xᵢ| + 1: converged.
+	// MinValleyStepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f while f was flat to the accuracy of the gradient (always so with finite differences): converged.
 	MinValleyStepTiny
 	// MinValleyOutOfIterations: the iteration limit came first.
 	MinValleyOutOfIterations
@@ -22,7 +22,7 @@ const (
 	MinValleyNonFiniteStart
 	// MinValleyNonFiniteGradient: a gradient component became NaN or ±Inf.
 	MinValleyNonFiniteGradient
-	// MinValleyNoDecrease: no step longer than the step limit decreased f: X may be a minimizer that the gradient limit cannot confirm (finite differences are noisier than the limit) or the gradient may be wrong.
+	// MinValleyNoDecrease: no step longer than the step limit decreased f, and f rose about as fast as the analytic gradient said it would fall: the gradient is probably wrong (see the generated gradient test).
 	MinValleyNoDecrease
 )
 
@@ -126,7 +126,9 @@ const (
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
 //  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (no decrease);
+//     steps shorter than the step limit are left to try (converged when
+//     f was flat along d or the gradient is a difference, else no
+//     decrease);
 //  5. move, refresh the gradient, let the direction learn from the step;
 //  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
 //
@@ -197,7 +199,15 @@ func minValleyMinimize(recv *Valley, x0 [2]float64, lim MinValleyLimits) minVall
 			out.status = MinValleyNoAcceptableStep
 			return out
 		case minValleySearchTiny:
+			// Converged to the step limit when f was flat along d to the
+			// accuracy available (see minValleyFlatTrial), and always with finite
+			// differences: their error, not the true slope, then steers d,
+			// so x is stationary to the accuracy of the differences. With
+			// an analytic gradient that f contradicts, it is not.
 			out.status = MinValleyNoDecrease
+			if found.flat || minValleyDerivativeCost > 0 {
+				out.status = MinValleyStepTiny
+			}
 			return out
 		}
 		if !minValleyFiniteVec(&xt) {
@@ -448,6 +458,7 @@ func minValleyLineSearch(recv *Valley, x *[2]float64, fx float64, d *[2]float64,
 	var high minValleyLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                         // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
+	flat := false // whether a trial failing sufficient decrease found f flat
 	t := first
 	calls := 0
 	for trial := 0; trial < minValleyStepTrials; trial++ {
@@ -456,14 +467,11 @@ func minValleyLineSearch(recv *Valley, x *[2]float64, fx float64, d *[2]float64,
 			// decreased f; else no step decreased f, unless f was not
 			// finite there.
 			if low.step == 0 {
-				return minValleyLineResult{calls: calls, end: minValleyTinyOrExhausted(minValleyFinite(high.value))}
+				return minValleyLineResult{calls: calls, flat: flat, end: minValleyTinyOrExhausted(minValleyFinite(high.value))}
 			}
 			return minValleyAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
 		}
 		if calls >= budget {
-			if low.step > 0 {
-				return minValleyAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // keep the decrease already paid for
-			}
 			return minValleyLineResult{calls: calls, end: minValleySearchOutOfBudget}
 		}
 		minValleyMoveTo(xt, x, t, d)
@@ -472,11 +480,9 @@ func minValleyLineSearch(recv *Valley, x *[2]float64, fx float64, d *[2]float64,
 		previous := low
 		if !minValleyFinite(current.value) || current.value > fx+minValleyStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
+			flat = flat || minValleyFinite(current.value) && minValleyFlatTrial(fx, current.value, t, slope)
 		} else {
 			if calls+minValleyDerivativeCost > budget {
-				if low.step > 0 {
-					return minValleyAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
-				}
 				return minValleyLineResult{calls: calls, end: minValleySearchOutOfBudget}
 			}
 			minValleyDerivative(recv, xt, current.value, gt)
@@ -513,6 +519,7 @@ type minValleyLineResult struct {
 	value    float64            // f(x + t·d)
 	calls    int                // objective calls spent, finite differences included
 	gradient bool               // whether gt holds ∇f(x + t·d) already
+	flat     bool               // whether a failed trial found f flat along d (see minValleyFlatTrial)
 	end      minValleySearchEnd // how the search ended
 }
 
@@ -545,8 +552,10 @@ const (
 )
 
 // minValleyAcceptLow ends a Wolfe search with its best trial, which met sufficient
-// decrease though not the curvature condition: the bracket collapsed, the
-// trials ran out or the budget did. Its gradient was kept in lowGradient.
+// decrease though not the curvature condition, when the bracket collapsed
+// or the trials ran out. Its gradient was kept in lowGradient. (When the
+// budget runs out the search ends without a step instead, so that a capped
+// run follows the uncapped run's path up to the cap.)
 func minValleyAcceptLow(x, d *[2]float64, low *minValleyLinePoint, lowGradient *[2]float64, calls int, xt, gt *[2]float64) minValleyLineResult {
 	minValleyMoveTo(xt, x, low.step, d)
 	*gt = *lowGradient
@@ -558,6 +567,27 @@ func minValleyMoveTo(out, x *[2]float64, t float64, d *[2]float64) {
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
+}
+
+// minValleyFlatTrial reports whether a failed trial t found f flat along d, to
+// the accuracy the gradient and f allow, so that no decrease can be
+// expected from any step:
+//
+//   - the change f(x + t·d) − f(x) = ft − fx is at most half the
+//     first-order prediction t·∇fᵀd in size: near a minimizer whose
+//     gradient is known only roughly (differences), the true slope along
+//     d is below that accuracy. A wrong gradient makes f rise about as
+//     fast as it predicts a fall, and never passes. This is the ratio of
+//     actual to predicted reduction of trust-region methods (Nocedal &
+//     Wright 2006, eq. 4.4);
+//   - or the prediction itself, |t·∇fᵀd|, is below the rounding unit of
+//     f, u·|f(x)|: no change that small can show in floating point, so x
+//     is a minimizer to working precision (Dennis & Schnabel 1983, §7.2,
+//     relate the gradient test to the precision of f; recalled from
+//     memory).
+func minValleyFlatTrial(fx, ft, t, slope float64) bool {
+	predicted := minValleyAbs(t * slope)
+	return minValleyAbs(ft-fx) <= 0.5*predicted || predicted <= minValleyUnitRoundoff*minValleyAbs(fx)
 }
 
 // minValleyCurvatureMet is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)
