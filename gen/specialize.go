@@ -163,6 +163,10 @@ type kernelChoice struct {
 	// mapped to their names in the generated file.
 	provided map[string]string
 	prefix   string // lowerCamel minimizer name
+	// trace keeps the calls of the observe hook, renamed to traceHook;
+	// otherwise they are deleted.
+	trace     bool
+	traceHook string
 }
 
 // specializedKernels holds the rewritten declarations and what they need.
@@ -179,6 +183,7 @@ var standIns = map[string]bool{
 	"elem": true, "dim": true, "vec": true, "receiver": true, "status": true, "limits": true,
 	"statusGradientSmall": true, "Source": true,
 	"derivativeSource": true, "sourceAnalytic": true, "kindSteepest": true, "ruleFixed": true, "backtrackShrink": true,
+	"observe": true,
 }
 
 // specialize copies the declarations the plan needs, in the order they are
@@ -318,6 +323,13 @@ func (rw *rewriter) rewrite(d ast.Decl) ast.Decl {
 			if call, ok := n.X.(*ast.CallExpr); ok && rw.isRecvCall(call, "gradient") {
 				cur.Replace(rw.gradientCall(call))
 			}
+			if call, ok := n.X.(*ast.CallExpr); ok && rw.isObserve(call) {
+				if rw.c.trace {
+					call.Fun = &ast.Ident{Name: rw.c.traceHook, NamePos: call.Fun.Pos()}
+				} else {
+					cur.Delete() // rewrite observe(…) to nothing
+				}
+			}
 		case *ast.CallExpr:
 			if rw.isRecvCall(n, "objective") {
 				cur.Replace(rw.objectiveCall(n))
@@ -383,6 +395,16 @@ func intLit(n int, pos token.Pos) *ast.BasicLit {
 func isUntyped(t types.Type) bool {
 	b, ok := t.(*types.Basic)
 	return ok && b.Info()&types.IsUntyped != 0
+}
+
+// isObserve reports whether call calls the observe hook.
+func (rw *rewriter) isObserve(call *ast.CallExpr) bool {
+	id, ok := call.Fun.(*ast.Ident)
+	if !ok {
+		return false
+	}
+	o := rw.obj(id)
+	return o != nil && o.Parent() == rw.ks.pkg.Scope() && o.Name() == "observe"
 }
 
 // isRecvCall reports whether call is recv.<method>(…) on the stand-in.

@@ -31,6 +31,13 @@ func (r *receiver) gradient(x, g *vec) {
 	r.gradientFunc(x, g)
 }
 
+// observe stands in for the hook of `nadir trace`, called with the state
+// after the first gradient and after every accepted step. gen deletes its
+// calls from every minimizer it writes and keeps them, pointed at a
+// recorder, only in the copy it compiles for tracing. Each call is
+// followed by a blank line, so that deleting it leaves the layout intact.
+func observe(iteration, evaluations int, x *vec, fx elem, g *vec, step elem) {}
+
 // status stands in for the spec's status type.
 type status uint8
 

@@ -151,6 +151,7 @@ func calibrateMinimize(x0 [2]float64, lim CalibrateLimits) calibrateOutcome {
 	var g [2]float64
 	calibrateDerivative(&x, fx, &g)
 	out.evaluations += calibrateDerivativeCost
+
 	if !calibrateFiniteVec(&g) {
 		out.status = CalibrateNonFiniteGradient
 		return out
@@ -228,6 +229,7 @@ func calibrateMinimize(x0 [2]float64, lim CalibrateLimits) calibrateOutcome {
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !calibrateFiniteVec(&g) {
 			out.status = CalibrateNonFiniteGradient
 			return out

@@ -152,6 +152,7 @@ func tuneGainMinimize(x0 [1]float64, lim TuneGainLimits) tuneGainOutcome {
 	var g [1]float64
 	tuneGainDerivative(&x, fx, &g)
 	out.evaluations += tuneGainDerivativeCost
+
 	if !tuneGainFiniteVec(&g) {
 		out.status = TuneGainNonFiniteGradient
 		return out
@@ -229,6 +230,7 @@ func tuneGainMinimize(x0 [1]float64, lim TuneGainLimits) tuneGainOutcome {
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !tuneGainFiniteVec(&g) {
 			out.status = TuneGainNonFiniteGradient
 			return out

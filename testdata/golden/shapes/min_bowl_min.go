@@ -154,6 +154,7 @@ func minBowlMinimize(x0 [3]float32, lim MinBowlLimits) minBowlOutcome {
 	var g [3]float32
 	minBowlDerivative(&x, fx, &g)
 	out.evaluations += minBowlDerivativeCost
+
 	if !minBowlFiniteVec(&g) {
 		out.status = MinBowlNonFiniteGradient
 		return out
@@ -231,6 +232,7 @@ func minBowlMinimize(x0 [3]float32, lim MinBowlLimits) minBowlOutcome {
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !minBowlFiniteVec(&g) {
 			out.status = MinBowlNonFiniteGradient
 			return out

@@ -152,6 +152,7 @@ func minParabolaMinimize(x0 [1]float64, lim MinParabolaLimits) minParabolaOutcom
 	var g [1]float64
 	minParabolaDerivative(&x, fx, &g)
 	out.evaluations += minParabolaDerivativeCost
+
 	if !minParabolaFiniteVec(&g) {
 		out.status = MinParabolaNonFiniteGradient
 		return out
@@ -229,6 +230,7 @@ func minParabolaMinimize(x0 [1]float64, lim MinParabolaLimits) minParabolaOutcom
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !minParabolaFiniteVec(&g) {
 			out.status = MinParabolaNonFiniteGradient
 			return out

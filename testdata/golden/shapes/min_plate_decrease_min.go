@@ -153,6 +153,7 @@ func minPlateDecreaseMinimize(x0 [2]float32, lim MinPlateDecreaseLimits) minPlat
 	var g [2]float32
 	minPlateDecreaseDerivative(&x, fx, &g)
 	out.evaluations += minPlateDecreaseDerivativeCost
+
 	if !minPlateDecreaseFiniteVec(&g) {
 		out.status = MinPlateDecreaseNonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func minPlateDecreaseMinimize(x0 [2]float32, lim MinPlateDecreaseLimits) minPlat
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !minPlateDecreaseFiniteVec(&g) {
 			out.status = MinPlateDecreaseNonFiniteGradient
 			return out

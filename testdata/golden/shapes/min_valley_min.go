@@ -154,6 +154,7 @@ func minValleyMinimize(recv *Valley, x0 [2]float64, lim MinValleyLimits) minVall
 	var g [2]float64
 	minValleyDerivative(recv, &x, fx, &g)
 	out.evaluations += minValleyDerivativeCost
+
 	if !minValleyFiniteVec(&g) {
 		out.status = MinValleyNonFiniteGradient
 		return out
@@ -231,6 +232,7 @@ func minValleyMinimize(recv *Valley, x0 [2]float64, lim MinValleyLimits) minVall
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !minValleyFiniteVec(&g) {
 			out.status = MinValleyNonFiniteGradient
 			return out

@@ -147,6 +147,7 @@ func minPlateMinimize(x0 [2]float32, lim MinPlateLimits) minPlateOutcome {
 	var g [2]float32
 	minPlateDerivative(&x, fx, &g)
 	out.evaluations += minPlateDerivativeCost
+
 	if !minPlateFiniteVec(&g) {
 		out.status = MinPlateNonFiniteGradient
 		return out
@@ -224,6 +225,7 @@ func minPlateMinimize(x0 [2]float32, lim MinPlateLimits) minPlateOutcome {
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !minPlateFiniteVec(&g) {
 			out.status = MinPlateNonFiniteGradient
 			return out
