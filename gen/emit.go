@@ -21,7 +21,11 @@ import (
 // goes through go/format once; source that does not parse is an error
 // that quotes it with line numbers, never a file on disk.
 func EmitMinimizer(w io.Writer, p *Plan) error {
-	kernels, err := specialize(p.kernelChoice())
+	return emitMinimizer(w, p, p.kernelChoice())
+}
+
+func emitMinimizer(w io.Writer, p *Plan, choice kernelChoice) error {
+	kernels, err := specialize(choice)
 	if err != nil {
 		return err
 	}

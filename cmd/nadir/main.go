@@ -3,6 +3,7 @@
 //	nadir gen SPEC...     write the generated files
 //	nadir check SPEC...   exit 1 when a generated file is missing or stale
 //	nadir init OBJECTIVE  write a starter spec for an objective
+//	nadir trace SPEC      run a minimizer once and print its iterations
 //	nadir rules           list directions, step rules and derivative sources
 //	nadir version         print the version
 //
@@ -29,6 +30,8 @@ const usage = `usage:
   nadir init OBJECTIVE [--out FILE]
                         write a starter spec for "Func" or "Type.Method" of the
                         package in FILE's directory (default ./<objective>.toml)
+  nadir trace SPEC [--name NAME] [--csv FILE] [--svg FILE]
+                        run the minimizer once from start, one row per iteration
   nadir rules           list directions, step rules and derivative sources
   nadir version         print nadir's version
 `
@@ -102,7 +105,9 @@ func run(args []string, stdout, stderr io.Writer) int {
 		return 0
 	case "init":
 		return runInit(rest, stdout, stderr)
-	case "tune", "trace":
+	case "trace":
+		return runTrace(rest, stdout, stderr)
+	case "tune":
 		fmt.Fprintf(stderr, "nadir %s: not available in this version\n", verb)
 		return 2
 	}
@@ -148,6 +153,50 @@ func runInit(args []string, stdout, stderr io.Writer) int {
 		return 2
 	}
 	fmt.Fprintln(stdout, "wrote", path)
+	return 0
+}
+
+// runTrace runs one minimizer from its start and prints its iterations;
+// the package itself is not written to.
+func runTrace(args []string, stdout, stderr io.Writer) int {
+	flags := pflag.NewFlagSet("nadir trace", pflag.ContinueOnError)
+	flags.SetOutput(io.Discard)
+	name := flags.String("name", "", "minimizer to trace (needed when the spec has several)")
+	csvPath := flags.String("csv", "", "also write the rows to this CSV file")
+	svgPath := flags.String("svg", "", "also draw the convergence chart to this SVG file")
+	if err := flags.Parse(args); err != nil || flags.NArg() != 1 {
+		fmt.Fprintf(stderr, "nadir trace: name one spec\n%s", usage)
+		return 2
+	}
+	plan, err := gen.SelectPlan(flags.Arg(0), *name)
+	if err != nil {
+		return report(stderr, err)
+	}
+	res, err := gen.Trace(plan)
+	if err != nil {
+		return report(stderr, err)
+	}
+	if err := gen.WriteTraceTable(stdout, plan, res); err != nil {
+		return report(stderr, err)
+	}
+	for _, out := range []struct {
+		path  string
+		write func(io.Writer) error
+	}{
+		{*csvPath, func(w io.Writer) error { return gen.WriteTraceCSV(w, res) }},
+		{*svgPath, func(w io.Writer) error { return gen.WriteTraceSVG(w, plan, res) }},
+	} {
+		if out.path == "" {
+			continue
+		}
+		var buf bytes.Buffer
+		if err := out.write(&buf); err != nil {
+			return report(stderr, err)
+		}
+		if err := os.WriteFile(out.path, buf.Bytes(), 0o644); err != nil {
+			return report(stderr, err)
+		}
+	}
 	return 0
 }
 

@@ -2,12 +2,14 @@ package main
 
 import (
 	"bytes"
+	"fmt"
 	"io/fs"
 	"os"
 	"path/filepath"
 	"regexp"
 	"runtime"
 	"sort"
+	"strconv"
 	"strings"
 	"testing"
 
@@ -502,5 +504,59 @@ func (p *Plant) CostGrad(x, g *[2]float64) {
 	}
 	if _, err := os.Stat("no_such_func.toml"); err == nil {
 		t.Errorf("a failed init left a file behind")
+	}
+}
+
+// trace runs a minimizer once through an overlay, prints one row per
+// iteration and writes the CSV and SVG, leaving the package untouched.
+func TestTrace(t *testing.T) {
+	quickstartModule(t)
+	if code, _, stderr := nadir("gen", "quickstart.toml"); code != 0 {
+		t.Fatalf("gen exited %d:\n%s", code, stderr)
+	}
+	before := snapshot(t, ".")
+	csvPath := filepath.Join(t.TempDir(), "calibrate.csv")
+	svgPath := filepath.Join(t.TempDir(), "calibrate.svg")
+	code, stdout, stderr := nadir("trace", "quickstart.toml", "--name", "Calibrate", "--csv", csvPath, "--svg", svgPath)
+	if code != 0 {
+		t.Fatalf("trace exited %d:\n%s%s", code, stdout, stderr)
+	}
+	if d := sameFiles(before, snapshot(t, ".")); d != "" {
+		t.Errorf("trace changed the package: %s", d)
+	}
+	if !strings.Contains(stdout, "gradient small (converged) after") || !strings.Contains(stdout, "iteration") {
+		t.Errorf("trace output lacks the table or the outcome:\n%s", stdout)
+	}
+	data, err := os.ReadFile(csvPath)
+	if err != nil {
+		t.Fatal(err)
+	}
+	lines := strings.Split(strings.TrimSpace(string(data)), "\n")
+	if lines[0] != "iteration,evaluations,f,gradient_max,step,x1,x2" {
+		t.Errorf("CSV header %q", lines[0])
+	}
+	// One row for the start and one per iteration; the iteration count is
+	// the one the outcome line reports.
+	var iterations int
+	for _, line := range strings.Split(stdout, "\n") {
+		if strings.Contains(line, "(converged) after") {
+			fmt.Sscanf(line[strings.Index(line, "after")+len("after"):], "%d", &iterations)
+		}
+	}
+	if iterations == 0 || len(lines) != iterations+2 {
+		t.Errorf("CSV has %d lines for %d iterations", len(lines), iterations)
+	}
+	last := strings.Split(lines[len(lines)-1], ",")
+	if last[0] != strconv.Itoa(iterations) {
+		t.Errorf("last CSV row is iteration %s, want %d", last[0], iterations)
+	}
+	svg, err := os.ReadFile(svgPath)
+	if err != nil || !strings.HasPrefix(string(svg), "<svg") || !strings.Contains(string(svg), "<polyline") {
+		t.Errorf("SVG missing or without a curve: %v", err)
+	}
+
+	code, _, stderr = nadir("trace", "quickstart.toml")
+	if code != 2 || !strings.Contains(stderr, "quickstart.toml:1:1: the spec has several minimizers; choose one with --name: TuneGain, Calibrate") {
+		t.Errorf("trace without --name on two minimizers exited %d:\n%s", code, stderr)
 	}
 }
