@@ -3,6 +3,7 @@
 //	nadir gen SPEC...     write the generated files
 //	nadir check SPEC...   exit 1 when a generated file is missing or stale
 //	nadir init OBJECTIVE  write a starter spec for an objective
+//	nadir tune SPEC       rank every sensible direction × step rule
 //	nadir trace SPEC      run a minimizer once and print its iterations
 //	nadir rules           list directions, step rules and derivative sources
 //	nadir version         print the version
@@ -30,6 +31,8 @@ const usage = `usage:
   nadir init OBJECTIVE [--out FILE]
                         write a starter spec for "Func" or "Type.Method" of the
                         package in FILE's directory (default ./<objective>.toml)
+  nadir tune SPEC [--name NAME]
+                        run every sensible direction × step rule from start, best first
   nadir trace SPEC [--name NAME] [--csv FILE] [--svg FILE]
                         run the minimizer once from start, one row per iteration
   nadir rules           list directions, step rules and derivative sources
@@ -108,8 +111,7 @@ func run(args []string, stdout, stderr io.Writer) int {
 	case "trace":
 		return runTrace(rest, stdout, stderr)
 	case "tune":
-		fmt.Fprintf(stderr, "nadir %s: not available in this version\n", verb)
-		return 2
+		return runTune(rest, stdout, stderr)
 	}
 	fmt.Fprintf(stderr, "nadir: unknown command %q\n%s", verb, usage)
 	return 2
@@ -153,6 +155,30 @@ func runInit(args []string, stdout, stderr io.Writer) int {
 		return 2
 	}
 	fmt.Fprintln(stdout, "wrote", path)
+	return 0
+}
+
+// runTune ranks the sensible policies on the spec's objective and start;
+// the package itself is not written to.
+func runTune(args []string, stdout, stderr io.Writer) int {
+	flags := pflag.NewFlagSet("nadir tune", pflag.ContinueOnError)
+	flags.SetOutput(io.Discard)
+	name := flags.String("name", "", "minimizer to tune (needed when the spec has several)")
+	if err := flags.Parse(args); err != nil || flags.NArg() != 1 {
+		fmt.Fprintf(stderr, "nadir tune: name one spec\n%s", usage)
+		return 2
+	}
+	plan, err := gen.SelectPlan(flags.Arg(0), *name)
+	if err != nil {
+		return report(stderr, err)
+	}
+	rows, err := gen.Tune(plan)
+	if err != nil {
+		return report(stderr, err)
+	}
+	if err := gen.WriteTuneTable(stdout, plan, rows); err != nil {
+		return report(stderr, err)
+	}
 	return 0
 }
 

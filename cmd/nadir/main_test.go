@@ -560,3 +560,38 @@ func TestTrace(t *testing.T) {
 		t.Errorf("trace without --name on two minimizers exited %d:\n%s", code, stderr)
 	}
 }
+
+// tune ranks every sensible policy plus the spec's own, marks both the
+// recommended row and the spec's choice, and leaves the package untouched.
+func TestTune(t *testing.T) {
+	quickstartModule(t)
+	before := snapshot(t, ".")
+	code, stdout, stderr := nadir("tune", "quickstart.toml", "--name", "Calibrate")
+	if code != 0 {
+		t.Fatalf("tune exited %d:\n%s%s", code, stdout, stderr)
+	}
+	if d := sameFiles(before, snapshot(t, ".")); d != "" {
+		t.Errorf("tune changed the package: %s", d)
+	}
+	var rows []string
+	for _, line := range strings.Split(stdout, "\n") {
+		if strings.Contains(line, " + ") {
+			rows = append(rows, line)
+		}
+	}
+	// 11 sensible policies; the spec's bfgs + armijo is one of them.
+	if len(rows) != 11 {
+		t.Fatalf("tune printed %d policy rows, want 11:\n%s", len(rows), stdout)
+	}
+	if !strings.Contains(rows[0], "← recommended") || !strings.Contains(rows[0], "gradient small") {
+		t.Errorf("first row is not the recommended, converged one: %q", rows[0])
+	}
+	if n := strings.Count(stdout, "the spec's choice"); n != 1 {
+		t.Errorf("the spec's choice is marked %d times", n)
+	}
+	for _, r := range rows {
+		if strings.HasPrefix(r, "bfgs + armijo ") && !strings.Contains(r, "the spec's choice") {
+			t.Errorf("the spec's bfgs + armijo row is not marked: %q", r)
+		}
+	}
+}
