@@ -19,7 +19,7 @@ func WriteRules(w io.Writer) {
 			fmt.Fprintf(w, "  %s — %s\n", e.Name, e.Summary)
 			fmt.Fprintf(w, "      %s\n", e.Math)
 			for _, p := range e.Params {
-				fmt.Fprintf(w, "      %-12s default %-8v range %-10s %s\n", p.Key, paramDefault(p), p.Range(), p.Doc)
+				fmt.Fprintf(w, "      %-12s default %-8v range %-12s %s\n", p.Key, paramDefault(p), paramRange(p), p.Doc)
 			}
 			for _, r := range e.References {
 				fmt.Fprintf(w, "      ref: %s\n", r)
@@ -33,8 +33,16 @@ func WriteRules(w io.Writer) {
 	fmt.Fprintln(w, "Stop limits ([minimizer.stop])")
 	fmt.Fprintln(w)
 	for _, p := range []rules.Param{rules.StopGradient, rules.StopStep, rules.StopIterations, rules.StopEvaluations} {
-		fmt.Fprintf(w, "  %-12s default %-8v range %-10s %s\n", p.Key, p.Default, p.Range(), p.Doc)
+		fmt.Fprintf(w, "  %-12s default %-8v range %-12s %s\n", p.Key, p.Default, p.Range(), p.Doc)
 	}
+}
+
+// paramRange shows a switch as its two values.
+func paramRange(p rules.Param) string {
+	if p.Key == "interpolate" {
+		return "true|false"
+	}
+	return p.Range()
 }
 
 func paramDefault(p rules.Param) any {
