@@ -46,10 +46,11 @@ func flatTrial(fx, ft, t, slope elem) bool {
 // budget objective calls. Steps t ≤ tiny are below the step limit: after
 // at least one failed trial, a search that would have to try such a step
 // ends with searchTiny instead, since every step longer than the step
-// limit failed to decrease f. That is not convergence: x may be a
-// minimizer the gradient test cannot confirm (finite-difference noise), or
-// the gradient may be wrong (Dennis & Schnabel 1983, §7.2, keep this case
-// apart from the step test, recalled from memory). On acceptance xt
+// limit failed to decrease f. The kernel calls that convergence only when
+// some failed trial found f flat (see flatTrial) or the gradient is a
+// difference; otherwise the gradient is likely wrong (Dennis & Schnabel
+// 1983, §7.2, keep this case apart from the step test, recalled from
+// memory). On acceptance xt
 // holds x + t·d (and gt its gradient when the result says so). It stands
 // in for the rule the spec chose; gen keeps only that one under this name.
 func lineSearch(recv *receiver, x *vec, fx elem, d *vec, slope, first, tiny elem, budget int, xt, gt *vec) lineResult {
