@@ -77,6 +77,12 @@ func (p *Plan) kernelChoice() kernelChoice {
 		"lineSearch":     rule.Kernel,
 		"curvatureMet":   "weakCurvature",
 		"backtrackTrial": "shrunkTrial",
+		"acceptable":     "armijoDecrease",
+	}
+	if p.M.Rule == "decrease" || p.M.Rule == "armijo" {
+		// The backtracking rules share backtrackSearch and differ in its
+		// acceptance test, which is what their table entries name.
+		pick["lineSearch"], pick["acceptable"] = "backtrackSearch", rule.Kernel
 	}
 	if p.M.Rule == "strong-wolfe" {
 		pick["curvatureMet"] = "strongCurvature"

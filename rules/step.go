@@ -57,7 +57,7 @@ var (
 		References: []string{
 			NocedalWright + ", §3.1 (why simple decrease is not enough)",
 		},
-		Kernel: "decreaseSearch",
+		Kernel: "simpleDecrease",
 	})
 	ArmijoRule = register(&stepRules, Entry{
 		Name:    "armijo",
@@ -69,7 +69,7 @@ var (
 			NocedalWright + ", eq. 3.4, Algorithm 3.1, §3.5",
 			DennisSchnabel + ", Algorithm A6.3.1 (interpolation safeguards)",
 		},
-		Kernel: "armijoSearch",
+		Kernel: "armijoDecrease",
 	})
 	WolfeRule = register(&stepRules, Entry{
 		Name:    "wolfe",

@@ -17,11 +17,11 @@ func fixedStep(recv *receiver, x *vec, fx elem, d *vec, slope, first, tiny elem,
 	return lineResult{step: stepInitial, value: ft, calls: 1, end: searchAccepted}
 }
 
-// decreaseSearch backtracks from the trial step first until f decreases at
-// all, f(x + t·d) < f(x), taking t ← next trial each time. Simple decrease
-// does not guarantee convergence (Nocedal & Wright 2006, §3.1, the example
-// around Fig. 3.2), which is why armijoSearch exists.
-func decreaseSearch(recv *receiver, x *vec, fx elem, d *vec, slope, first, tiny elem, budget int, xt, gt *vec) lineResult {
+// backtrackSearch backtracks from the trial step first until the rule's
+// acceptance test holds, taking t ← next trial after each
+// failure, by fixed shrink or by interpolation (Nocedal & Wright 2006,
+// Algorithm 3.1 and §3.5). A non-finite value fails like any trial.
+func backtrackSearch(recv *receiver, x *vec, fx elem, d *vec, slope, first, tiny elem, budget int, xt, gt *vec) lineResult {
 	t := first
 	var previous, fPrevious elem
 	flat := false
@@ -34,7 +34,7 @@ func decreaseSearch(recv *receiver, x *vec, fx elem, d *vec, slope, first, tiny 
 		}
 		moveTo(xt, x, t, d)
 		ft := recv.objective(xt)
-		if finite(ft) && ft < fx {
+		if finite(ft) && acceptable(fx, ft, t, slope) {
 			return lineResult{step: t, value: ft, calls: trial + 1, end: searchAccepted}
 		}
 		flat = flat || finite(ft) && flatTrial(fx, ft, t, slope)
@@ -43,39 +43,36 @@ func decreaseSearch(recv *receiver, x *vec, fx elem, d *vec, slope, first, tiny 
 	return lineResult{calls: stepTrials, end: searchExhausted}
 }
 
-// armijoSearch backtracks from the trial step first until the Armijo
-// sufficient-decrease condition holds:
+// acceptable is the backtracking rule's test of a trial t with value ft.
+// It stands in for the rule the spec chose; gen keeps only that one under
+// this name.
+func acceptable(fx, ft, t, slope elem) bool {
+	if stepRule == ruleDecrease {
+		return simpleDecrease(fx, ft, t, slope)
+	}
+	return armijoDecrease(fx, ft, t, slope)
+}
+
+// simpleDecrease accepts any decrease, f(x + t·d) < f(x). Simple decrease
+// does not guarantee convergence (Nocedal & Wright 2006, §3.1, the example
+// around Fig. 3.2), which is why armijoDecrease exists.
+func simpleDecrease(fx, ft, t, slope elem) bool {
+	return ft < fx
+}
+
+// armijoDecrease is the Armijo sufficient-decrease condition
 //
 //	f(x + t·d) ≤ f(x) + c1·t·∇f(x)ᵀd,  c1 = stepDecrease
 //
-// (Armijo 1966; Nocedal & Wright 2006, eq. 3.4 and Algorithm 3.1). Each
-// failure takes t ← next trial, by fixed shrink or by interpolation.
+// (Armijo 1966; Nocedal & Wright 2006, eq. 3.4 and Algorithm 3.1).
 //
 // References:
 //   - L. Armijo, Minimization of functions having Lipschitz continuous
 //     first partial derivatives, Pacific J. Math. 16(1):1–3, 1966.
 //   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
 //     Springer, 2006, §3.1 and §3.5.
-func armijoSearch(recv *receiver, x *vec, fx elem, d *vec, slope, first, tiny elem, budget int, xt, gt *vec) lineResult {
-	t := first
-	var previous, fPrevious elem
-	flat := false
-	for trial := 0; trial < stepTrials; trial++ {
-		if trial > 0 && t <= tiny {
-			return lineResult{calls: trial, flat: flat, end: tinyOrExhausted(finite(fPrevious))}
-		}
-		if trial >= budget {
-			return lineResult{calls: trial, end: searchOutOfBudget}
-		}
-		moveTo(xt, x, t, d)
-		ft := recv.objective(xt)
-		if finite(ft) && ft <= fx+stepDecrease*t*slope { // N&W eq. 3.4
-			return lineResult{step: t, value: ft, calls: trial + 1, end: searchAccepted}
-		}
-		flat = flat || finite(ft) && flatTrial(fx, ft, t, slope)
-		t, previous, fPrevious = backtrackTrial(fx, slope, t, ft, previous, fPrevious), t, ft
-	}
-	return lineResult{calls: stepTrials, end: searchExhausted}
+func armijoDecrease(fx, ft, t, slope elem) bool {
+	return ft <= fx+stepDecrease*t*slope // N&W eq. 3.4
 }
 
 // backtrackTrial picks the next, smaller trial after t failed with

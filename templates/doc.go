@@ -12,8 +12,8 @@
 // Rules for authors of this package, which gen relies on:
 //   - the objective is called only as recv.objective(x) and the gradient
 //     only as the statement recv.gradient(x, g), both with *vec operands;
-//   - a dispatcher (derivative, direction, lineSearch, backtrackTrial,
-//     curvatureMet) switches on a selector in params.go, and every
+//   - a dispatcher (derivative, direction, lineSearch, acceptable,
+//     backtrackTrial, curvatureMet) switches on a selector in params.go, and every
 //     alternative it names has the same signature;
 //   - conversions between elem and float64 are written out for float32's
 //     sake; gen drops them when elem is float64.

@@ -57,11 +57,9 @@ func lineSearch(recv *receiver, x *vec, fx elem, d *vec, slope, first, tiny elem
 	switch stepRule {
 	case ruleFixed:
 		return fixedStep(recv, x, fx, d, slope, first, tiny, budget, xt, gt)
-	case ruleDecrease:
-		return decreaseSearch(recv, x, fx, d, slope, first, tiny, budget, xt, gt)
-	case ruleWolfe, ruleStrongWolfe:
-		return wolfeSearch(recv, x, fx, d, slope, first, tiny, budget, xt, gt)
+	case ruleDecrease, ruleArmijo:
+		return backtrackSearch(recv, x, fx, d, slope, first, tiny, budget, xt, gt)
 	default:
-		return armijoSearch(recv, x, fx, d, slope, first, tiny, budget, xt, gt)
+		return wolfeSearch(recv, x, fx, d, slope, first, tiny, budget, xt, gt)
 	}
 }

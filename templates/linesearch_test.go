@@ -164,7 +164,7 @@ func armijoProblems() []armijoProblem {
 	return problems
 }
 
-// armijoSearch accepts the first trial meeting sufficient decrease (N&W
+// backtrackSearch with the Armijo test accepts the first trial meeting sufficient decrease (N&W
 // 2006, eq. 3.4 and Algorithm 3.1): every earlier trial violated it, the
 // accepted one meets it, and the trials follow the backtracking rule —
 // t ← t·stepShrink exactly for backtrackShrink (Algorithm 3.1), a step in
@@ -195,7 +195,7 @@ func TestArmijoSearch(t *testing.T) {
 						t.Fatalf("test data: slope %g is not negative", slope)
 					}
 					var xt, gt vec
-					res := armijoSearch(recv, &x, fx, &d, slope, first, 0, 1000, &xt, &gt)
+					res := backtrackSearch(recv, &x, fx, &d, slope, first, 0, 1000, &xt, &gt)
 					if res.end != searchAccepted {
 						t.Fatalf("end %d after %d calls", res.end, res.calls)
 					}
@@ -203,7 +203,7 @@ func TestArmijoSearch(t *testing.T) {
 						t.Errorf("reported %d calls, objective saw %d", res.calls, recv.calls)
 					}
 					if res.gradient {
-						t.Errorf("armijoSearch claims to hold the gradient")
+						t.Errorf("backtrackSearch claims to hold the gradient")
 					}
 					steps := make([]float64, len(*trials))
 					values := make([]float64, len(*trials))
@@ -261,7 +261,7 @@ func TestArmijoSearch(t *testing.T) {
 	}
 }
 
-// When no trial is acceptable armijoSearch stops after stepTrials calls,
+// When no trial is acceptable backtrackSearch stops after stepTrials calls,
 // and it never spends more calls than its budget.
 func TestArmijoSearchLimits(t *testing.T) {
 	for _, kind := range []int{backtrackShrink, backtrackInterpolate} {
@@ -272,7 +272,7 @@ func TestArmijoSearchLimits(t *testing.T) {
 		}
 		x, d := vec{0, 0}, vec{1, 0}
 		var xt, gt vec
-		res := armijoSearch(wall, &x, 0, &d, -1, 1, 0, 1000, &xt, &gt)
+		res := backtrackSearch(wall, &x, 0, &d, -1, 1, 0, 1000, &xt, &gt)
 		if res.end != searchExhausted || res.calls != stepTrials || wall.calls != stepTrials {
 			t.Errorf("all +Inf: end %d after %d calls (objective saw %d), want exhausted after %d", res.end, res.calls, wall.calls, stepTrials)
 		}
@@ -284,13 +284,13 @@ func TestArmijoSearchLimits(t *testing.T) {
 			var g vec
 			prob.make().gradient(&x, &g)
 			slope := dot(&g, &d)
-			full := armijoSearch(prob.make(), &x, fx, &d, slope, 1e6, 0, 1000, &xt, &gt)
+			full := backtrackSearch(prob.make(), &x, fx, &d, slope, 1e6, 0, 1000, &xt, &gt)
 			if full.end != searchAccepted {
 				t.Fatalf("%s: end %d", prob.name, full.end)
 			}
 			for budget := 0; budget <= full.calls; budget++ {
 				recv := prob.make()
-				res := armijoSearch(recv, &x, fx, &d, slope, 1e6, 0, budget, &xt, &gt)
+				res := backtrackSearch(recv, &x, fx, &d, slope, 1e6, 0, budget, &xt, &gt)
 				if recv.calls > budget || res.calls != recv.calls {
 					t.Errorf("%s, budget %d: %d calls, %d reported", prob.name, budget, recv.calls, res.calls)
 				}

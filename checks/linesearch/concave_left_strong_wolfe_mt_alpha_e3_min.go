@@ -153,6 +153,7 @@ func concaveLeftStrongWolfeMTAlphaE3Minimize(x0 [1]float64, lim ConcaveLeftStron
 	var g [1]float64
 	concaveLeftStrongWolfeMTAlphaE3Derivative(&x, fx, &g)
 	out.evaluations += concaveLeftStrongWolfeMTAlphaE3DerivativeCost
+
 	if !concaveLeftStrongWolfeMTAlphaE3FiniteVec(&g) {
 		out.status = ConcaveLeftStrongWolfeMTAlphaE3NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func concaveLeftStrongWolfeMTAlphaE3Minimize(x0 [1]float64, lim ConcaveLeftStron
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !concaveLeftStrongWolfeMTAlphaE3FiniteVec(&g) {
 			out.status = ConcaveLeftStrongWolfeMTAlphaE3NonFiniteGradient
 			return out

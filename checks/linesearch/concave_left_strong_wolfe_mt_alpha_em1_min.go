@@ -153,6 +153,7 @@ func concaveLeftStrongWolfeMTAlphaEm1Minimize(x0 [1]float64, lim ConcaveLeftStro
 	var g [1]float64
 	concaveLeftStrongWolfeMTAlphaEm1Derivative(&x, fx, &g)
 	out.evaluations += concaveLeftStrongWolfeMTAlphaEm1DerivativeCost
+
 	if !concaveLeftStrongWolfeMTAlphaEm1FiniteVec(&g) {
 		out.status = ConcaveLeftStrongWolfeMTAlphaEm1NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func concaveLeftStrongWolfeMTAlphaEm1Minimize(x0 [1]float64, lim ConcaveLeftStro
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !concaveLeftStrongWolfeMTAlphaEm1FiniteVec(&g) {
 			out.status = ConcaveLeftStrongWolfeMTAlphaEm1NonFiniteGradient
 			return out

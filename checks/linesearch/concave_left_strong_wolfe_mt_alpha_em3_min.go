@@ -153,6 +153,7 @@ func concaveLeftStrongWolfeMTAlphaEm3Minimize(x0 [1]float64, lim ConcaveLeftStro
 	var g [1]float64
 	concaveLeftStrongWolfeMTAlphaEm3Derivative(&x, fx, &g)
 	out.evaluations += concaveLeftStrongWolfeMTAlphaEm3DerivativeCost
+
 	if !concaveLeftStrongWolfeMTAlphaEm3FiniteVec(&g) {
 		out.status = ConcaveLeftStrongWolfeMTAlphaEm3NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func concaveLeftStrongWolfeMTAlphaEm3Minimize(x0 [1]float64, lim ConcaveLeftStro
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !concaveLeftStrongWolfeMTAlphaEm3FiniteVec(&g) {
 			out.status = ConcaveLeftStrongWolfeMTAlphaEm3NonFiniteGradient
 			return out

@@ -153,6 +153,7 @@ func concaveLeftStrongWolfeNWAlphaE1Minimize(x0 [1]float64, lim ConcaveLeftStron
 	var g [1]float64
 	concaveLeftStrongWolfeNWAlphaE1Derivative(&x, fx, &g)
 	out.evaluations += concaveLeftStrongWolfeNWAlphaE1DerivativeCost
+
 	if !concaveLeftStrongWolfeNWAlphaE1FiniteVec(&g) {
 		out.status = ConcaveLeftStrongWolfeNWAlphaE1NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func concaveLeftStrongWolfeNWAlphaE1Minimize(x0 [1]float64, lim ConcaveLeftStron
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !concaveLeftStrongWolfeNWAlphaE1FiniteVec(&g) {
 			out.status = ConcaveLeftStrongWolfeNWAlphaE1NonFiniteGradient
 			return out

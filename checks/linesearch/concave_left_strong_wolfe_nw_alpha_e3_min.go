@@ -153,6 +153,7 @@ func concaveLeftStrongWolfeNWAlphaE3Minimize(x0 [1]float64, lim ConcaveLeftStron
 	var g [1]float64
 	concaveLeftStrongWolfeNWAlphaE3Derivative(&x, fx, &g)
 	out.evaluations += concaveLeftStrongWolfeNWAlphaE3DerivativeCost
+
 	if !concaveLeftStrongWolfeNWAlphaE3FiniteVec(&g) {
 		out.status = ConcaveLeftStrongWolfeNWAlphaE3NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func concaveLeftStrongWolfeNWAlphaE3Minimize(x0 [1]float64, lim ConcaveLeftStron
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !concaveLeftStrongWolfeNWAlphaE3FiniteVec(&g) {
 			out.status = ConcaveLeftStrongWolfeNWAlphaE3NonFiniteGradient
 			return out

@@ -153,6 +153,7 @@ func concaveLeftStrongWolfeNWAlphaEm1Minimize(x0 [1]float64, lim ConcaveLeftStro
 	var g [1]float64
 	concaveLeftStrongWolfeNWAlphaEm1Derivative(&x, fx, &g)
 	out.evaluations += concaveLeftStrongWolfeNWAlphaEm1DerivativeCost
+
 	if !concaveLeftStrongWolfeNWAlphaEm1FiniteVec(&g) {
 		out.status = ConcaveLeftStrongWolfeNWAlphaEm1NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func concaveLeftStrongWolfeNWAlphaEm1Minimize(x0 [1]float64, lim ConcaveLeftStro
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !concaveLeftStrongWolfeNWAlphaEm1FiniteVec(&g) {
 			out.status = ConcaveLeftStrongWolfeNWAlphaEm1NonFiniteGradient
 			return out

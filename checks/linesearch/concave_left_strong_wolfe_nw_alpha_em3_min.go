@@ -153,6 +153,7 @@ func concaveLeftStrongWolfeNWAlphaEm3Minimize(x0 [1]float64, lim ConcaveLeftStro
 	var g [1]float64
 	concaveLeftStrongWolfeNWAlphaEm3Derivative(&x, fx, &g)
 	out.evaluations += concaveLeftStrongWolfeNWAlphaEm3DerivativeCost
+
 	if !concaveLeftStrongWolfeNWAlphaEm3FiniteVec(&g) {
 		out.status = ConcaveLeftStrongWolfeNWAlphaEm3NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func concaveLeftStrongWolfeNWAlphaEm3Minimize(x0 [1]float64, lim ConcaveLeftStro
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !concaveLeftStrongWolfeNWAlphaEm3FiniteVec(&g) {
 			out.status = ConcaveLeftStrongWolfeNWAlphaEm3NonFiniteGradient
 			return out

@@ -153,6 +153,7 @@ func concaveLeftWolfeMTAlphaE1Minimize(x0 [1]float64, lim ConcaveLeftWolfeMTAlph
 	var g [1]float64
 	concaveLeftWolfeMTAlphaE1Derivative(&x, fx, &g)
 	out.evaluations += concaveLeftWolfeMTAlphaE1DerivativeCost
+
 	if !concaveLeftWolfeMTAlphaE1FiniteVec(&g) {
 		out.status = ConcaveLeftWolfeMTAlphaE1NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func concaveLeftWolfeMTAlphaE1Minimize(x0 [1]float64, lim ConcaveLeftWolfeMTAlph
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !concaveLeftWolfeMTAlphaE1FiniteVec(&g) {
 			out.status = ConcaveLeftWolfeMTAlphaE1NonFiniteGradient
 			return out

@@ -153,6 +153,7 @@ func concaveLeftWolfeMTAlphaE3Minimize(x0 [1]float64, lim ConcaveLeftWolfeMTAlph
 	var g [1]float64
 	concaveLeftWolfeMTAlphaE3Derivative(&x, fx, &g)
 	out.evaluations += concaveLeftWolfeMTAlphaE3DerivativeCost
+
 	if !concaveLeftWolfeMTAlphaE3FiniteVec(&g) {
 		out.status = ConcaveLeftWolfeMTAlphaE3NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func concaveLeftWolfeMTAlphaE3Minimize(x0 [1]float64, lim ConcaveLeftWolfeMTAlph
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !concaveLeftWolfeMTAlphaE3FiniteVec(&g) {
 			out.status = ConcaveLeftWolfeMTAlphaE3NonFiniteGradient
 			return out

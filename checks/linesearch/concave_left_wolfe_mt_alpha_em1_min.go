@@ -153,6 +153,7 @@ func concaveLeftWolfeMTAlphaEm1Minimize(x0 [1]float64, lim ConcaveLeftWolfeMTAlp
 	var g [1]float64
 	concaveLeftWolfeMTAlphaEm1Derivative(&x, fx, &g)
 	out.evaluations += concaveLeftWolfeMTAlphaEm1DerivativeCost
+
 	if !concaveLeftWolfeMTAlphaEm1FiniteVec(&g) {
 		out.status = ConcaveLeftWolfeMTAlphaEm1NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func concaveLeftWolfeMTAlphaEm1Minimize(x0 [1]float64, lim ConcaveLeftWolfeMTAlp
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !concaveLeftWolfeMTAlphaEm1FiniteVec(&g) {
 			out.status = ConcaveLeftWolfeMTAlphaEm1NonFiniteGradient
 			return out

@@ -153,6 +153,7 @@ func concaveLeftWolfeMTAlphaEm3Minimize(x0 [1]float64, lim ConcaveLeftWolfeMTAlp
 	var g [1]float64
 	concaveLeftWolfeMTAlphaEm3Derivative(&x, fx, &g)
 	out.evaluations += concaveLeftWolfeMTAlphaEm3DerivativeCost
+
 	if !concaveLeftWolfeMTAlphaEm3FiniteVec(&g) {
 		out.status = ConcaveLeftWolfeMTAlphaEm3NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func concaveLeftWolfeMTAlphaEm3Minimize(x0 [1]float64, lim ConcaveLeftWolfeMTAlp
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !concaveLeftWolfeMTAlphaEm3FiniteVec(&g) {
 			out.status = ConcaveLeftWolfeMTAlphaEm3NonFiniteGradient
 			return out

@@ -153,6 +153,7 @@ func concaveLeftWolfeNWAlphaE1Minimize(x0 [1]float64, lim ConcaveLeftWolfeNWAlph
 	var g [1]float64
 	concaveLeftWolfeNWAlphaE1Derivative(&x, fx, &g)
 	out.evaluations += concaveLeftWolfeNWAlphaE1DerivativeCost
+
 	if !concaveLeftWolfeNWAlphaE1FiniteVec(&g) {
 		out.status = ConcaveLeftWolfeNWAlphaE1NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func concaveLeftWolfeNWAlphaE1Minimize(x0 [1]float64, lim ConcaveLeftWolfeNWAlph
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !concaveLeftWolfeNWAlphaE1FiniteVec(&g) {
 			out.status = ConcaveLeftWolfeNWAlphaE1NonFiniteGradient
 			return out

@@ -153,6 +153,7 @@ func concaveLeftWolfeNWAlphaE3Minimize(x0 [1]float64, lim ConcaveLeftWolfeNWAlph
 	var g [1]float64
 	concaveLeftWolfeNWAlphaE3Derivative(&x, fx, &g)
 	out.evaluations += concaveLeftWolfeNWAlphaE3DerivativeCost
+
 	if !concaveLeftWolfeNWAlphaE3FiniteVec(&g) {
 		out.status = ConcaveLeftWolfeNWAlphaE3NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func concaveLeftWolfeNWAlphaE3Minimize(x0 [1]float64, lim ConcaveLeftWolfeNWAlph
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !concaveLeftWolfeNWAlphaE3FiniteVec(&g) {
 			out.status = ConcaveLeftWolfeNWAlphaE3NonFiniteGradient
 			return out

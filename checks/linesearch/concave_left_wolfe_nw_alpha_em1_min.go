@@ -153,6 +153,7 @@ func concaveLeftWolfeNWAlphaEm1Minimize(x0 [1]float64, lim ConcaveLeftWolfeNWAlp
 	var g [1]float64
 	concaveLeftWolfeNWAlphaEm1Derivative(&x, fx, &g)
 	out.evaluations += concaveLeftWolfeNWAlphaEm1DerivativeCost
+
 	if !concaveLeftWolfeNWAlphaEm1FiniteVec(&g) {
 		out.status = ConcaveLeftWolfeNWAlphaEm1NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func concaveLeftWolfeNWAlphaEm1Minimize(x0 [1]float64, lim ConcaveLeftWolfeNWAlp
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !concaveLeftWolfeNWAlphaEm1FiniteVec(&g) {
 			out.status = ConcaveLeftWolfeNWAlphaEm1NonFiniteGradient
 			return out

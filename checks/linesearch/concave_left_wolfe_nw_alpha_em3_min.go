@@ -153,6 +153,7 @@ func concaveLeftWolfeNWAlphaEm3Minimize(x0 [1]float64, lim ConcaveLeftWolfeNWAlp
 	var g [1]float64
 	concaveLeftWolfeNWAlphaEm3Derivative(&x, fx, &g)
 	out.evaluations += concaveLeftWolfeNWAlphaEm3DerivativeCost
+
 	if !concaveLeftWolfeNWAlphaEm3FiniteVec(&g) {
 		out.status = ConcaveLeftWolfeNWAlphaEm3NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func concaveLeftWolfeNWAlphaEm3Minimize(x0 [1]float64, lim ConcaveLeftWolfeNWAlp
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !concaveLeftWolfeNWAlphaEm3FiniteVec(&g) {
 			out.status = ConcaveLeftWolfeNWAlphaEm3NonFiniteGradient
 			return out

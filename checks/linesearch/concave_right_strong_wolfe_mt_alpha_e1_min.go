@@ -153,6 +153,7 @@ func concaveRightStrongWolfeMTAlphaE1Minimize(x0 [1]float64, lim ConcaveRightStr
 	var g [1]float64
 	concaveRightStrongWolfeMTAlphaE1Derivative(&x, fx, &g)
 	out.evaluations += concaveRightStrongWolfeMTAlphaE1DerivativeCost
+
 	if !concaveRightStrongWolfeMTAlphaE1FiniteVec(&g) {
 		out.status = ConcaveRightStrongWolfeMTAlphaE1NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func concaveRightStrongWolfeMTAlphaE1Minimize(x0 [1]float64, lim ConcaveRightStr
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !concaveRightStrongWolfeMTAlphaE1FiniteVec(&g) {
 			out.status = ConcaveRightStrongWolfeMTAlphaE1NonFiniteGradient
 			return out

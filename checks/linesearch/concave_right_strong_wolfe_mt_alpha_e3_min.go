@@ -153,6 +153,7 @@ func concaveRightStrongWolfeMTAlphaE3Minimize(x0 [1]float64, lim ConcaveRightStr
 	var g [1]float64
 	concaveRightStrongWolfeMTAlphaE3Derivative(&x, fx, &g)
 	out.evaluations += concaveRightStrongWolfeMTAlphaE3DerivativeCost
+
 	if !concaveRightStrongWolfeMTAlphaE3FiniteVec(&g) {
 		out.status = ConcaveRightStrongWolfeMTAlphaE3NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func concaveRightStrongWolfeMTAlphaE3Minimize(x0 [1]float64, lim ConcaveRightStr
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !concaveRightStrongWolfeMTAlphaE3FiniteVec(&g) {
 			out.status = ConcaveRightStrongWolfeMTAlphaE3NonFiniteGradient
 			return out

@@ -153,6 +153,7 @@ func concaveRightStrongWolfeMTAlphaEm1Minimize(x0 [1]float64, lim ConcaveRightSt
 	var g [1]float64
 	concaveRightStrongWolfeMTAlphaEm1Derivative(&x, fx, &g)
 	out.evaluations += concaveRightStrongWolfeMTAlphaEm1DerivativeCost
+
 	if !concaveRightStrongWolfeMTAlphaEm1FiniteVec(&g) {
 		out.status = ConcaveRightStrongWolfeMTAlphaEm1NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func concaveRightStrongWolfeMTAlphaEm1Minimize(x0 [1]float64, lim ConcaveRightSt
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !concaveRightStrongWolfeMTAlphaEm1FiniteVec(&g) {
 			out.status = ConcaveRightStrongWolfeMTAlphaEm1NonFiniteGradient
 			return out

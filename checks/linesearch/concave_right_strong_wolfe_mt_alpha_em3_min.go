@@ -153,6 +153,7 @@ func concaveRightStrongWolfeMTAlphaEm3Minimize(x0 [1]float64, lim ConcaveRightSt
 	var g [1]float64
 	concaveRightStrongWolfeMTAlphaEm3Derivative(&x, fx, &g)
 	out.evaluations += concaveRightStrongWolfeMTAlphaEm3DerivativeCost
+
 	if !concaveRightStrongWolfeMTAlphaEm3FiniteVec(&g) {
 		out.status = ConcaveRightStrongWolfeMTAlphaEm3NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func concaveRightStrongWolfeMTAlphaEm3Minimize(x0 [1]float64, lim ConcaveRightSt
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !concaveRightStrongWolfeMTAlphaEm3FiniteVec(&g) {
 			out.status = ConcaveRightStrongWolfeMTAlphaEm3NonFiniteGradient
 			return out

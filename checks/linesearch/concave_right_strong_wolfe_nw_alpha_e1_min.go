@@ -153,6 +153,7 @@ func concaveRightStrongWolfeNWAlphaE1Minimize(x0 [1]float64, lim ConcaveRightStr
 	var g [1]float64
 	concaveRightStrongWolfeNWAlphaE1Derivative(&x, fx, &g)
 	out.evaluations += concaveRightStrongWolfeNWAlphaE1DerivativeCost
+
 	if !concaveRightStrongWolfeNWAlphaE1FiniteVec(&g) {
 		out.status = ConcaveRightStrongWolfeNWAlphaE1NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func concaveRightStrongWolfeNWAlphaE1Minimize(x0 [1]float64, lim ConcaveRightStr
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !concaveRightStrongWolfeNWAlphaE1FiniteVec(&g) {
 			out.status = ConcaveRightStrongWolfeNWAlphaE1NonFiniteGradient
 			return out

@@ -153,6 +153,7 @@ func concaveRightStrongWolfeNWAlphaE3Minimize(x0 [1]float64, lim ConcaveRightStr
 	var g [1]float64
 	concaveRightStrongWolfeNWAlphaE3Derivative(&x, fx, &g)
 	out.evaluations += concaveRightStrongWolfeNWAlphaE3DerivativeCost
+
 	if !concaveRightStrongWolfeNWAlphaE3FiniteVec(&g) {
 		out.status = ConcaveRightStrongWolfeNWAlphaE3NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func concaveRightStrongWolfeNWAlphaE3Minimize(x0 [1]float64, lim ConcaveRightStr
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !concaveRightStrongWolfeNWAlphaE3FiniteVec(&g) {
 			out.status = ConcaveRightStrongWolfeNWAlphaE3NonFiniteGradient
 			return out

@@ -153,6 +153,7 @@ func concaveRightStrongWolfeNWAlphaEm1Minimize(x0 [1]float64, lim ConcaveRightSt
 	var g [1]float64
 	concaveRightStrongWolfeNWAlphaEm1Derivative(&x, fx, &g)
 	out.evaluations += concaveRightStrongWolfeNWAlphaEm1DerivativeCost
+
 	if !concaveRightStrongWolfeNWAlphaEm1FiniteVec(&g) {
 		out.status = ConcaveRightStrongWolfeNWAlphaEm1NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func concaveRightStrongWolfeNWAlphaEm1Minimize(x0 [1]float64, lim ConcaveRightSt
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !concaveRightStrongWolfeNWAlphaEm1FiniteVec(&g) {
 			out.status = ConcaveRightStrongWolfeNWAlphaEm1NonFiniteGradient
 			return out

@@ -153,6 +153,7 @@ func concaveRightStrongWolfeNWAlphaEm3Minimize(x0 [1]float64, lim ConcaveRightSt
 	var g [1]float64
 	concaveRightStrongWolfeNWAlphaEm3Derivative(&x, fx, &g)
 	out.evaluations += concaveRightStrongWolfeNWAlphaEm3DerivativeCost
+
 	if !concaveRightStrongWolfeNWAlphaEm3FiniteVec(&g) {
 		out.status = ConcaveRightStrongWolfeNWAlphaEm3NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func concaveRightStrongWolfeNWAlphaEm3Minimize(x0 [1]float64, lim ConcaveRightSt
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !concaveRightStrongWolfeNWAlphaEm3FiniteVec(&g) {
 			out.status = ConcaveRightStrongWolfeNWAlphaEm3NonFiniteGradient
 			return out

@@ -153,6 +153,7 @@ func concaveRightWolfeMTAlphaE1Minimize(x0 [1]float64, lim ConcaveRightWolfeMTAl
 	var g [1]float64
 	concaveRightWolfeMTAlphaE1Derivative(&x, fx, &g)
 	out.evaluations += concaveRightWolfeMTAlphaE1DerivativeCost
+
 	if !concaveRightWolfeMTAlphaE1FiniteVec(&g) {
 		out.status = ConcaveRightWolfeMTAlphaE1NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func concaveRightWolfeMTAlphaE1Minimize(x0 [1]float64, lim ConcaveRightWolfeMTAl
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !concaveRightWolfeMTAlphaE1FiniteVec(&g) {
 			out.status = ConcaveRightWolfeMTAlphaE1NonFiniteGradient
 			return out

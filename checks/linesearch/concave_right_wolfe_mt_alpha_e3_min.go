@@ -153,6 +153,7 @@ func concaveRightWolfeMTAlphaE3Minimize(x0 [1]float64, lim ConcaveRightWolfeMTAl
 	var g [1]float64
 	concaveRightWolfeMTAlphaE3Derivative(&x, fx, &g)
 	out.evaluations += concaveRightWolfeMTAlphaE3DerivativeCost
+
 	if !concaveRightWolfeMTAlphaE3FiniteVec(&g) {
 		out.status = ConcaveRightWolfeMTAlphaE3NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func concaveRightWolfeMTAlphaE3Minimize(x0 [1]float64, lim ConcaveRightWolfeMTAl
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !concaveRightWolfeMTAlphaE3FiniteVec(&g) {
 			out.status = ConcaveRightWolfeMTAlphaE3NonFiniteGradient
 			return out

@@ -153,6 +153,7 @@ func concaveRightWolfeMTAlphaEm1Minimize(x0 [1]float64, lim ConcaveRightWolfeMTA
 	var g [1]float64
 	concaveRightWolfeMTAlphaEm1Derivative(&x, fx, &g)
 	out.evaluations += concaveRightWolfeMTAlphaEm1DerivativeCost
+
 	if !concaveRightWolfeMTAlphaEm1FiniteVec(&g) {
 		out.status = ConcaveRightWolfeMTAlphaEm1NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func concaveRightWolfeMTAlphaEm1Minimize(x0 [1]float64, lim ConcaveRightWolfeMTA
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !concaveRightWolfeMTAlphaEm1FiniteVec(&g) {
 			out.status = ConcaveRightWolfeMTAlphaEm1NonFiniteGradient
 			return out

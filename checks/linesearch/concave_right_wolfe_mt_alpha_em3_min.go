@@ -153,6 +153,7 @@ func concaveRightWolfeMTAlphaEm3Minimize(x0 [1]float64, lim ConcaveRightWolfeMTA
 	var g [1]float64
 	concaveRightWolfeMTAlphaEm3Derivative(&x, fx, &g)
 	out.evaluations += concaveRightWolfeMTAlphaEm3DerivativeCost
+
 	if !concaveRightWolfeMTAlphaEm3FiniteVec(&g) {
 		out.status = ConcaveRightWolfeMTAlphaEm3NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func concaveRightWolfeMTAlphaEm3Minimize(x0 [1]float64, lim ConcaveRightWolfeMTA
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !concaveRightWolfeMTAlphaEm3FiniteVec(&g) {
 			out.status = ConcaveRightWolfeMTAlphaEm3NonFiniteGradient
 			return out

@@ -153,6 +153,7 @@ func concaveRightWolfeNWAlphaE1Minimize(x0 [1]float64, lim ConcaveRightWolfeNWAl
 	var g [1]float64
 	concaveRightWolfeNWAlphaE1Derivative(&x, fx, &g)
 	out.evaluations += concaveRightWolfeNWAlphaE1DerivativeCost
+
 	if !concaveRightWolfeNWAlphaE1FiniteVec(&g) {
 		out.status = ConcaveRightWolfeNWAlphaE1NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func concaveRightWolfeNWAlphaE1Minimize(x0 [1]float64, lim ConcaveRightWolfeNWAl
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !concaveRightWolfeNWAlphaE1FiniteVec(&g) {
 			out.status = ConcaveRightWolfeNWAlphaE1NonFiniteGradient
 			return out

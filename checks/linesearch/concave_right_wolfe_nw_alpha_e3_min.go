@@ -153,6 +153,7 @@ func concaveRightWolfeNWAlphaE3Minimize(x0 [1]float64, lim ConcaveRightWolfeNWAl
 	var g [1]float64
 	concaveRightWolfeNWAlphaE3Derivative(&x, fx, &g)
 	out.evaluations += concaveRightWolfeNWAlphaE3DerivativeCost
+
 	if !concaveRightWolfeNWAlphaE3FiniteVec(&g) {
 		out.status = ConcaveRightWolfeNWAlphaE3NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func concaveRightWolfeNWAlphaE3Minimize(x0 [1]float64, lim ConcaveRightWolfeNWAl
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !concaveRightWolfeNWAlphaE3FiniteVec(&g) {
 			out.status = ConcaveRightWolfeNWAlphaE3NonFiniteGradient
 			return out

@@ -153,6 +153,7 @@ func concaveRightWolfeNWAlphaEm1Minimize(x0 [1]float64, lim ConcaveRightWolfeNWA
 	var g [1]float64
 	concaveRightWolfeNWAlphaEm1Derivative(&x, fx, &g)
 	out.evaluations += concaveRightWolfeNWAlphaEm1DerivativeCost
+
 	if !concaveRightWolfeNWAlphaEm1FiniteVec(&g) {
 		out.status = ConcaveRightWolfeNWAlphaEm1NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func concaveRightWolfeNWAlphaEm1Minimize(x0 [1]float64, lim ConcaveRightWolfeNWA
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !concaveRightWolfeNWAlphaEm1FiniteVec(&g) {
 			out.status = ConcaveRightWolfeNWAlphaEm1NonFiniteGradient
 			return out

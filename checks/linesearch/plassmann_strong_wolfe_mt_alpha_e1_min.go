@@ -153,6 +153,7 @@ func plassmannStrongWolfeMTAlphaE1Minimize(x0 [1]float64, lim PlassmannStrongWol
 	var g [1]float64
 	plassmannStrongWolfeMTAlphaE1Derivative(&x, fx, &g)
 	out.evaluations += plassmannStrongWolfeMTAlphaE1DerivativeCost
+
 	if !plassmannStrongWolfeMTAlphaE1FiniteVec(&g) {
 		out.status = PlassmannStrongWolfeMTAlphaE1NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func plassmannStrongWolfeMTAlphaE1Minimize(x0 [1]float64, lim PlassmannStrongWol
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !plassmannStrongWolfeMTAlphaE1FiniteVec(&g) {
 			out.status = PlassmannStrongWolfeMTAlphaE1NonFiniteGradient
 			return out

@@ -153,6 +153,7 @@ func plassmannStrongWolfeMTAlphaE3Minimize(x0 [1]float64, lim PlassmannStrongWol
 	var g [1]float64
 	plassmannStrongWolfeMTAlphaE3Derivative(&x, fx, &g)
 	out.evaluations += plassmannStrongWolfeMTAlphaE3DerivativeCost
+
 	if !plassmannStrongWolfeMTAlphaE3FiniteVec(&g) {
 		out.status = PlassmannStrongWolfeMTAlphaE3NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func plassmannStrongWolfeMTAlphaE3Minimize(x0 [1]float64, lim PlassmannStrongWol
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !plassmannStrongWolfeMTAlphaE3FiniteVec(&g) {
 			out.status = PlassmannStrongWolfeMTAlphaE3NonFiniteGradient
 			return out

@@ -153,6 +153,7 @@ func plassmannStrongWolfeMTAlphaEm3Minimize(x0 [1]float64, lim PlassmannStrongWo
 	var g [1]float64
 	plassmannStrongWolfeMTAlphaEm3Derivative(&x, fx, &g)
 	out.evaluations += plassmannStrongWolfeMTAlphaEm3DerivativeCost
+
 	if !plassmannStrongWolfeMTAlphaEm3FiniteVec(&g) {
 		out.status = PlassmannStrongWolfeMTAlphaEm3NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func plassmannStrongWolfeMTAlphaEm3Minimize(x0 [1]float64, lim PlassmannStrongWo
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !plassmannStrongWolfeMTAlphaEm3FiniteVec(&g) {
 			out.status = PlassmannStrongWolfeMTAlphaEm3NonFiniteGradient
 			return out

@@ -153,6 +153,7 @@ func plassmannStrongWolfeNWAlphaE1Minimize(x0 [1]float64, lim PlassmannStrongWol
 	var g [1]float64
 	plassmannStrongWolfeNWAlphaE1Derivative(&x, fx, &g)
 	out.evaluations += plassmannStrongWolfeNWAlphaE1DerivativeCost
+
 	if !plassmannStrongWolfeNWAlphaE1FiniteVec(&g) {
 		out.status = PlassmannStrongWolfeNWAlphaE1NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func plassmannStrongWolfeNWAlphaE1Minimize(x0 [1]float64, lim PlassmannStrongWol
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !plassmannStrongWolfeNWAlphaE1FiniteVec(&g) {
 			out.status = PlassmannStrongWolfeNWAlphaE1NonFiniteGradient
 			return out

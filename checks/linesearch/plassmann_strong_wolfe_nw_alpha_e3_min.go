@@ -153,6 +153,7 @@ func plassmannStrongWolfeNWAlphaE3Minimize(x0 [1]float64, lim PlassmannStrongWol
 	var g [1]float64
 	plassmannStrongWolfeNWAlphaE3Derivative(&x, fx, &g)
 	out.evaluations += plassmannStrongWolfeNWAlphaE3DerivativeCost
+
 	if !plassmannStrongWolfeNWAlphaE3FiniteVec(&g) {
 		out.status = PlassmannStrongWolfeNWAlphaE3NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func plassmannStrongWolfeNWAlphaE3Minimize(x0 [1]float64, lim PlassmannStrongWol
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !plassmannStrongWolfeNWAlphaE3FiniteVec(&g) {
 			out.status = PlassmannStrongWolfeNWAlphaE3NonFiniteGradient
 			return out

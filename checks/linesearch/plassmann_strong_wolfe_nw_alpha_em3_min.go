@@ -153,6 +153,7 @@ func plassmannStrongWolfeNWAlphaEm3Minimize(x0 [1]float64, lim PlassmannStrongWo
 	var g [1]float64
 	plassmannStrongWolfeNWAlphaEm3Derivative(&x, fx, &g)
 	out.evaluations += plassmannStrongWolfeNWAlphaEm3DerivativeCost
+
 	if !plassmannStrongWolfeNWAlphaEm3FiniteVec(&g) {
 		out.status = PlassmannStrongWolfeNWAlphaEm3NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func plassmannStrongWolfeNWAlphaEm3Minimize(x0 [1]float64, lim PlassmannStrongWo
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !plassmannStrongWolfeNWAlphaEm3FiniteVec(&g) {
 			out.status = PlassmannStrongWolfeNWAlphaEm3NonFiniteGradient
 			return out

@@ -153,6 +153,7 @@ func plassmannWolfeMTAlphaE1Minimize(x0 [1]float64, lim PlassmannWolfeMTAlphaE1L
 	var g [1]float64
 	plassmannWolfeMTAlphaE1Derivative(&x, fx, &g)
 	out.evaluations += plassmannWolfeMTAlphaE1DerivativeCost
+
 	if !plassmannWolfeMTAlphaE1FiniteVec(&g) {
 		out.status = PlassmannWolfeMTAlphaE1NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func plassmannWolfeMTAlphaE1Minimize(x0 [1]float64, lim PlassmannWolfeMTAlphaE1L
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !plassmannWolfeMTAlphaE1FiniteVec(&g) {
 			out.status = PlassmannWolfeMTAlphaE1NonFiniteGradient
 			return out

@@ -153,6 +153,7 @@ func plassmannWolfeMTAlphaE3Minimize(x0 [1]float64, lim PlassmannWolfeMTAlphaE3L
 	var g [1]float64
 	plassmannWolfeMTAlphaE3Derivative(&x, fx, &g)
 	out.evaluations += plassmannWolfeMTAlphaE3DerivativeCost
+
 	if !plassmannWolfeMTAlphaE3FiniteVec(&g) {
 		out.status = PlassmannWolfeMTAlphaE3NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func plassmannWolfeMTAlphaE3Minimize(x0 [1]float64, lim PlassmannWolfeMTAlphaE3L
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !plassmannWolfeMTAlphaE3FiniteVec(&g) {
 			out.status = PlassmannWolfeMTAlphaE3NonFiniteGradient
 			return out

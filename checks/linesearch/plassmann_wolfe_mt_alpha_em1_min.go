@@ -153,6 +153,7 @@ func plassmannWolfeMTAlphaEm1Minimize(x0 [1]float64, lim PlassmannWolfeMTAlphaEm
 	var g [1]float64
 	plassmannWolfeMTAlphaEm1Derivative(&x, fx, &g)
 	out.evaluations += plassmannWolfeMTAlphaEm1DerivativeCost
+
 	if !plassmannWolfeMTAlphaEm1FiniteVec(&g) {
 		out.status = PlassmannWolfeMTAlphaEm1NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func plassmannWolfeMTAlphaEm1Minimize(x0 [1]float64, lim PlassmannWolfeMTAlphaEm
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !plassmannWolfeMTAlphaEm1FiniteVec(&g) {
 			out.status = PlassmannWolfeMTAlphaEm1NonFiniteGradient
 			return out

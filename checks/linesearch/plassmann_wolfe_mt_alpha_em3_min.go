@@ -153,6 +153,7 @@ func plassmannWolfeMTAlphaEm3Minimize(x0 [1]float64, lim PlassmannWolfeMTAlphaEm
 	var g [1]float64
 	plassmannWolfeMTAlphaEm3Derivative(&x, fx, &g)
 	out.evaluations += plassmannWolfeMTAlphaEm3DerivativeCost
+
 	if !plassmannWolfeMTAlphaEm3FiniteVec(&g) {
 		out.status = PlassmannWolfeMTAlphaEm3NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func plassmannWolfeMTAlphaEm3Minimize(x0 [1]float64, lim PlassmannWolfeMTAlphaEm
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !plassmannWolfeMTAlphaEm3FiniteVec(&g) {
 			out.status = PlassmannWolfeMTAlphaEm3NonFiniteGradient
 			return out

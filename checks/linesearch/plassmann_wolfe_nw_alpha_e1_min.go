@@ -153,6 +153,7 @@ func plassmannWolfeNWAlphaE1Minimize(x0 [1]float64, lim PlassmannWolfeNWAlphaE1L
 	var g [1]float64
 	plassmannWolfeNWAlphaE1Derivative(&x, fx, &g)
 	out.evaluations += plassmannWolfeNWAlphaE1DerivativeCost
+
 	if !plassmannWolfeNWAlphaE1FiniteVec(&g) {
 		out.status = PlassmannWolfeNWAlphaE1NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func plassmannWolfeNWAlphaE1Minimize(x0 [1]float64, lim PlassmannWolfeNWAlphaE1L
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !plassmannWolfeNWAlphaE1FiniteVec(&g) {
 			out.status = PlassmannWolfeNWAlphaE1NonFiniteGradient
 			return out

@@ -153,6 +153,7 @@ func plassmannWolfeNWAlphaE3Minimize(x0 [1]float64, lim PlassmannWolfeNWAlphaE3L
 	var g [1]float64
 	plassmannWolfeNWAlphaE3Derivative(&x, fx, &g)
 	out.evaluations += plassmannWolfeNWAlphaE3DerivativeCost
+
 	if !plassmannWolfeNWAlphaE3FiniteVec(&g) {
 		out.status = PlassmannWolfeNWAlphaE3NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func plassmannWolfeNWAlphaE3Minimize(x0 [1]float64, lim PlassmannWolfeNWAlphaE3L
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !plassmannWolfeNWAlphaE3FiniteVec(&g) {
 			out.status = PlassmannWolfeNWAlphaE3NonFiniteGradient
 			return out

@@ -153,6 +153,7 @@ func plassmannWolfeNWAlphaEm3Minimize(x0 [1]float64, lim PlassmannWolfeNWAlphaEm
 	var g [1]float64
 	plassmannWolfeNWAlphaEm3Derivative(&x, fx, &g)
 	out.evaluations += plassmannWolfeNWAlphaEm3DerivativeCost
+
 	if !plassmannWolfeNWAlphaEm3FiniteVec(&g) {
 		out.status = PlassmannWolfeNWAlphaEm3NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func plassmannWolfeNWAlphaEm3Minimize(x0 [1]float64, lim PlassmannWolfeNWAlphaEm
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !plassmannWolfeNWAlphaEm3FiniteVec(&g) {
 			out.status = PlassmannWolfeNWAlphaEm3NonFiniteGradient
 			return out

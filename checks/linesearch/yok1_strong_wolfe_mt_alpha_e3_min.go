@@ -153,6 +153,7 @@ func yok1StrongWolfeMTAlphaE3Minimize(x0 [1]float64, lim YOK1StrongWolfeMTAlphaE
 	var g [1]float64
 	yok1StrongWolfeMTAlphaE3Derivative(&x, fx, &g)
 	out.evaluations += yok1StrongWolfeMTAlphaE3DerivativeCost
+
 	if !yok1StrongWolfeMTAlphaE3FiniteVec(&g) {
 		out.status = YOK1StrongWolfeMTAlphaE3NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func yok1StrongWolfeMTAlphaE3Minimize(x0 [1]float64, lim YOK1StrongWolfeMTAlphaE
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !yok1StrongWolfeMTAlphaE3FiniteVec(&g) {
 			out.status = YOK1StrongWolfeMTAlphaE3NonFiniteGradient
 			return out

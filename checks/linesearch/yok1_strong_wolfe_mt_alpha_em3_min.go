@@ -153,6 +153,7 @@ func yok1StrongWolfeMTAlphaEm3Minimize(x0 [1]float64, lim YOK1StrongWolfeMTAlpha
 	var g [1]float64
 	yok1StrongWolfeMTAlphaEm3Derivative(&x, fx, &g)
 	out.evaluations += yok1StrongWolfeMTAlphaEm3DerivativeCost
+
 	if !yok1StrongWolfeMTAlphaEm3FiniteVec(&g) {
 		out.status = YOK1StrongWolfeMTAlphaEm3NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func yok1StrongWolfeMTAlphaEm3Minimize(x0 [1]float64, lim YOK1StrongWolfeMTAlpha
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !yok1StrongWolfeMTAlphaEm3FiniteVec(&g) {
 			out.status = YOK1StrongWolfeMTAlphaEm3NonFiniteGradient
 			return out

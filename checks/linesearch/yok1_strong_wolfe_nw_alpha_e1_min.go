@@ -153,6 +153,7 @@ func yok1StrongWolfeNWAlphaE1Minimize(x0 [1]float64, lim YOK1StrongWolfeNWAlphaE
 	var g [1]float64
 	yok1StrongWolfeNWAlphaE1Derivative(&x, fx, &g)
 	out.evaluations += yok1StrongWolfeNWAlphaE1DerivativeCost
+
 	if !yok1StrongWolfeNWAlphaE1FiniteVec(&g) {
 		out.status = YOK1StrongWolfeNWAlphaE1NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func yok1StrongWolfeNWAlphaE1Minimize(x0 [1]float64, lim YOK1StrongWolfeNWAlphaE
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !yok1StrongWolfeNWAlphaE1FiniteVec(&g) {
 			out.status = YOK1StrongWolfeNWAlphaE1NonFiniteGradient
 			return out

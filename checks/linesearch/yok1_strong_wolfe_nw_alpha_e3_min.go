@@ -153,6 +153,7 @@ func yok1StrongWolfeNWAlphaE3Minimize(x0 [1]float64, lim YOK1StrongWolfeNWAlphaE
 	var g [1]float64
 	yok1StrongWolfeNWAlphaE3Derivative(&x, fx, &g)
 	out.evaluations += yok1StrongWolfeNWAlphaE3DerivativeCost
+
 	if !yok1StrongWolfeNWAlphaE3FiniteVec(&g) {
 		out.status = YOK1StrongWolfeNWAlphaE3NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func yok1StrongWolfeNWAlphaE3Minimize(x0 [1]float64, lim YOK1StrongWolfeNWAlphaE
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !yok1StrongWolfeNWAlphaE3FiniteVec(&g) {
 			out.status = YOK1StrongWolfeNWAlphaE3NonFiniteGradient
 			return out

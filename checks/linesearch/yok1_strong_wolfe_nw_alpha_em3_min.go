@@ -153,6 +153,7 @@ func yok1StrongWolfeNWAlphaEm3Minimize(x0 [1]float64, lim YOK1StrongWolfeNWAlpha
 	var g [1]float64
 	yok1StrongWolfeNWAlphaEm3Derivative(&x, fx, &g)
 	out.evaluations += yok1StrongWolfeNWAlphaEm3DerivativeCost
+
 	if !yok1StrongWolfeNWAlphaEm3FiniteVec(&g) {
 		out.status = YOK1StrongWolfeNWAlphaEm3NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func yok1StrongWolfeNWAlphaEm3Minimize(x0 [1]float64, lim YOK1StrongWolfeNWAlpha
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !yok1StrongWolfeNWAlphaEm3FiniteVec(&g) {
 			out.status = YOK1StrongWolfeNWAlphaEm3NonFiniteGradient
 			return out

@@ -153,6 +153,7 @@ func yok1WolfeMTAlphaE1Minimize(x0 [1]float64, lim YOK1WolfeMTAlphaE1Limits) yok
 	var g [1]float64
 	yok1WolfeMTAlphaE1Derivative(&x, fx, &g)
 	out.evaluations += yok1WolfeMTAlphaE1DerivativeCost
+
 	if !yok1WolfeMTAlphaE1FiniteVec(&g) {
 		out.status = YOK1WolfeMTAlphaE1NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func yok1WolfeMTAlphaE1Minimize(x0 [1]float64, lim YOK1WolfeMTAlphaE1Limits) yok
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !yok1WolfeMTAlphaE1FiniteVec(&g) {
 			out.status = YOK1WolfeMTAlphaE1NonFiniteGradient
 			return out

@@ -153,6 +153,7 @@ func yok1WolfeMTAlphaE3Minimize(x0 [1]float64, lim YOK1WolfeMTAlphaE3Limits) yok
 	var g [1]float64
 	yok1WolfeMTAlphaE3Derivative(&x, fx, &g)
 	out.evaluations += yok1WolfeMTAlphaE3DerivativeCost
+
 	if !yok1WolfeMTAlphaE3FiniteVec(&g) {
 		out.status = YOK1WolfeMTAlphaE3NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func yok1WolfeMTAlphaE3Minimize(x0 [1]float64, lim YOK1WolfeMTAlphaE3Limits) yok
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !yok1WolfeMTAlphaE3FiniteVec(&g) {
 			out.status = YOK1WolfeMTAlphaE3NonFiniteGradient
 			return out

@@ -153,6 +153,7 @@ func yok1WolfeMTAlphaEm1Minimize(x0 [1]float64, lim YOK1WolfeMTAlphaEm1Limits) y
 	var g [1]float64
 	yok1WolfeMTAlphaEm1Derivative(&x, fx, &g)
 	out.evaluations += yok1WolfeMTAlphaEm1DerivativeCost
+
 	if !yok1WolfeMTAlphaEm1FiniteVec(&g) {
 		out.status = YOK1WolfeMTAlphaEm1NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func yok1WolfeMTAlphaEm1Minimize(x0 [1]float64, lim YOK1WolfeMTAlphaEm1Limits) y
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !yok1WolfeMTAlphaEm1FiniteVec(&g) {
 			out.status = YOK1WolfeMTAlphaEm1NonFiniteGradient
 			return out

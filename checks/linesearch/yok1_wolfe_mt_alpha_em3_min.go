@@ -153,6 +153,7 @@ func yok1WolfeMTAlphaEm3Minimize(x0 [1]float64, lim YOK1WolfeMTAlphaEm3Limits) y
 	var g [1]float64
 	yok1WolfeMTAlphaEm3Derivative(&x, fx, &g)
 	out.evaluations += yok1WolfeMTAlphaEm3DerivativeCost
+
 	if !yok1WolfeMTAlphaEm3FiniteVec(&g) {
 		out.status = YOK1WolfeMTAlphaEm3NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func yok1WolfeMTAlphaEm3Minimize(x0 [1]float64, lim YOK1WolfeMTAlphaEm3Limits) y
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !yok1WolfeMTAlphaEm3FiniteVec(&g) {
 			out.status = YOK1WolfeMTAlphaEm3NonFiniteGradient
 			return out

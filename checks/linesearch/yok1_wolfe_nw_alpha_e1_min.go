@@ -153,6 +153,7 @@ func yok1WolfeNWAlphaE1Minimize(x0 [1]float64, lim YOK1WolfeNWAlphaE1Limits) yok
 	var g [1]float64
 	yok1WolfeNWAlphaE1Derivative(&x, fx, &g)
 	out.evaluations += yok1WolfeNWAlphaE1DerivativeCost
+
 	if !yok1WolfeNWAlphaE1FiniteVec(&g) {
 		out.status = YOK1WolfeNWAlphaE1NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func yok1WolfeNWAlphaE1Minimize(x0 [1]float64, lim YOK1WolfeNWAlphaE1Limits) yok
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !yok1WolfeNWAlphaE1FiniteVec(&g) {
 			out.status = YOK1WolfeNWAlphaE1NonFiniteGradient
 			return out

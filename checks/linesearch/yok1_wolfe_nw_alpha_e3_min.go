@@ -153,6 +153,7 @@ func yok1WolfeNWAlphaE3Minimize(x0 [1]float64, lim YOK1WolfeNWAlphaE3Limits) yok
 	var g [1]float64
 	yok1WolfeNWAlphaE3Derivative(&x, fx, &g)
 	out.evaluations += yok1WolfeNWAlphaE3DerivativeCost
+
 	if !yok1WolfeNWAlphaE3FiniteVec(&g) {
 		out.status = YOK1WolfeNWAlphaE3NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func yok1WolfeNWAlphaE3Minimize(x0 [1]float64, lim YOK1WolfeNWAlphaE3Limits) yok
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !yok1WolfeNWAlphaE3FiniteVec(&g) {
 			out.status = YOK1WolfeNWAlphaE3NonFiniteGradient
 			return out

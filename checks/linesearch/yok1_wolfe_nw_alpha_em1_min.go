@@ -153,6 +153,7 @@ func yok1WolfeNWAlphaEm1Minimize(x0 [1]float64, lim YOK1WolfeNWAlphaEm1Limits) y
 	var g [1]float64
 	yok1WolfeNWAlphaEm1Derivative(&x, fx, &g)
 	out.evaluations += yok1WolfeNWAlphaEm1DerivativeCost
+
 	if !yok1WolfeNWAlphaEm1FiniteVec(&g) {
 		out.status = YOK1WolfeNWAlphaEm1NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func yok1WolfeNWAlphaEm1Minimize(x0 [1]float64, lim YOK1WolfeNWAlphaEm1Limits) y
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !yok1WolfeNWAlphaEm1FiniteVec(&g) {
 			out.status = YOK1WolfeNWAlphaEm1NonFiniteGradient
 			return out

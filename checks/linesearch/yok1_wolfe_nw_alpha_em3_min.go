@@ -153,6 +153,7 @@ func yok1WolfeNWAlphaEm3Minimize(x0 [1]float64, lim YOK1WolfeNWAlphaEm3Limits) y
 	var g [1]float64
 	yok1WolfeNWAlphaEm3Derivative(&x, fx, &g)
 	out.evaluations += yok1WolfeNWAlphaEm3DerivativeCost
+
 	if !yok1WolfeNWAlphaEm3FiniteVec(&g) {
 		out.status = YOK1WolfeNWAlphaEm3NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func yok1WolfeNWAlphaEm3Minimize(x0 [1]float64, lim YOK1WolfeNWAlphaEm3Limits) y
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !yok1WolfeNWAlphaEm3FiniteVec(&g) {
 			out.status = YOK1WolfeNWAlphaEm3NonFiniteGradient
 			return out

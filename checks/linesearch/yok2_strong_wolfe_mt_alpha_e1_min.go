@@ -153,6 +153,7 @@ func yok2StrongWolfeMTAlphaE1Minimize(x0 [1]float64, lim YOK2StrongWolfeMTAlphaE
 	var g [1]float64
 	yok2StrongWolfeMTAlphaE1Derivative(&x, fx, &g)
 	out.evaluations += yok2StrongWolfeMTAlphaE1DerivativeCost
+
 	if !yok2StrongWolfeMTAlphaE1FiniteVec(&g) {
 		out.status = YOK2StrongWolfeMTAlphaE1NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func yok2StrongWolfeMTAlphaE1Minimize(x0 [1]float64, lim YOK2StrongWolfeMTAlphaE
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !yok2StrongWolfeMTAlphaE1FiniteVec(&g) {
 			out.status = YOK2StrongWolfeMTAlphaE1NonFiniteGradient
 			return out

@@ -153,6 +153,7 @@ func yok2StrongWolfeMTAlphaE3Minimize(x0 [1]float64, lim YOK2StrongWolfeMTAlphaE
 	var g [1]float64
 	yok2StrongWolfeMTAlphaE3Derivative(&x, fx, &g)
 	out.evaluations += yok2StrongWolfeMTAlphaE3DerivativeCost
+
 	if !yok2StrongWolfeMTAlphaE3FiniteVec(&g) {
 		out.status = YOK2StrongWolfeMTAlphaE3NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func yok2StrongWolfeMTAlphaE3Minimize(x0 [1]float64, lim YOK2StrongWolfeMTAlphaE
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !yok2StrongWolfeMTAlphaE3FiniteVec(&g) {
 			out.status = YOK2StrongWolfeMTAlphaE3NonFiniteGradient
 			return out

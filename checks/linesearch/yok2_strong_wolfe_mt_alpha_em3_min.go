@@ -153,6 +153,7 @@ func yok2StrongWolfeMTAlphaEm3Minimize(x0 [1]float64, lim YOK2StrongWolfeMTAlpha
 	var g [1]float64
 	yok2StrongWolfeMTAlphaEm3Derivative(&x, fx, &g)
 	out.evaluations += yok2StrongWolfeMTAlphaEm3DerivativeCost
+
 	if !yok2StrongWolfeMTAlphaEm3FiniteVec(&g) {
 		out.status = YOK2StrongWolfeMTAlphaEm3NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func yok2StrongWolfeMTAlphaEm3Minimize(x0 [1]float64, lim YOK2StrongWolfeMTAlpha
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !yok2StrongWolfeMTAlphaEm3FiniteVec(&g) {
 			out.status = YOK2StrongWolfeMTAlphaEm3NonFiniteGradient
 			return out

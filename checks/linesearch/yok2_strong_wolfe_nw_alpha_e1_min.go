@@ -153,6 +153,7 @@ func yok2StrongWolfeNWAlphaE1Minimize(x0 [1]float64, lim YOK2StrongWolfeNWAlphaE
 	var g [1]float64
 	yok2StrongWolfeNWAlphaE1Derivative(&x, fx, &g)
 	out.evaluations += yok2StrongWolfeNWAlphaE1DerivativeCost
+
 	if !yok2StrongWolfeNWAlphaE1FiniteVec(&g) {
 		out.status = YOK2StrongWolfeNWAlphaE1NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func yok2StrongWolfeNWAlphaE1Minimize(x0 [1]float64, lim YOK2StrongWolfeNWAlphaE
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !yok2StrongWolfeNWAlphaE1FiniteVec(&g) {
 			out.status = YOK2StrongWolfeNWAlphaE1NonFiniteGradient
 			return out

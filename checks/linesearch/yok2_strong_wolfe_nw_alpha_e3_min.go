@@ -153,6 +153,7 @@ func yok2StrongWolfeNWAlphaE3Minimize(x0 [1]float64, lim YOK2StrongWolfeNWAlphaE
 	var g [1]float64
 	yok2StrongWolfeNWAlphaE3Derivative(&x, fx, &g)
 	out.evaluations += yok2StrongWolfeNWAlphaE3DerivativeCost
+
 	if !yok2StrongWolfeNWAlphaE3FiniteVec(&g) {
 		out.status = YOK2StrongWolfeNWAlphaE3NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func yok2StrongWolfeNWAlphaE3Minimize(x0 [1]float64, lim YOK2StrongWolfeNWAlphaE
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !yok2StrongWolfeNWAlphaE3FiniteVec(&g) {
 			out.status = YOK2StrongWolfeNWAlphaE3NonFiniteGradient
 			return out

@@ -153,6 +153,7 @@ func yok2StrongWolfeNWAlphaEm1Minimize(x0 [1]float64, lim YOK2StrongWolfeNWAlpha
 	var g [1]float64
 	yok2StrongWolfeNWAlphaEm1Derivative(&x, fx, &g)
 	out.evaluations += yok2StrongWolfeNWAlphaEm1DerivativeCost
+
 	if !yok2StrongWolfeNWAlphaEm1FiniteVec(&g) {
 		out.status = YOK2StrongWolfeNWAlphaEm1NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func yok2StrongWolfeNWAlphaEm1Minimize(x0 [1]float64, lim YOK2StrongWolfeNWAlpha
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !yok2StrongWolfeNWAlphaEm1FiniteVec(&g) {
 			out.status = YOK2StrongWolfeNWAlphaEm1NonFiniteGradient
 			return out

@@ -153,6 +153,7 @@ func yok2StrongWolfeNWAlphaEm3Minimize(x0 [1]float64, lim YOK2StrongWolfeNWAlpha
 	var g [1]float64
 	yok2StrongWolfeNWAlphaEm3Derivative(&x, fx, &g)
 	out.evaluations += yok2StrongWolfeNWAlphaEm3DerivativeCost
+
 	if !yok2StrongWolfeNWAlphaEm3FiniteVec(&g) {
 		out.status = YOK2StrongWolfeNWAlphaEm3NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func yok2StrongWolfeNWAlphaEm3Minimize(x0 [1]float64, lim YOK2StrongWolfeNWAlpha
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !yok2StrongWolfeNWAlphaEm3FiniteVec(&g) {
 			out.status = YOK2StrongWolfeNWAlphaEm3NonFiniteGradient
 			return out

@@ -153,6 +153,7 @@ func yok2WolfeMTAlphaE1Minimize(x0 [1]float64, lim YOK2WolfeMTAlphaE1Limits) yok
 	var g [1]float64
 	yok2WolfeMTAlphaE1Derivative(&x, fx, &g)
 	out.evaluations += yok2WolfeMTAlphaE1DerivativeCost
+
 	if !yok2WolfeMTAlphaE1FiniteVec(&g) {
 		out.status = YOK2WolfeMTAlphaE1NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func yok2WolfeMTAlphaE1Minimize(x0 [1]float64, lim YOK2WolfeMTAlphaE1Limits) yok
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !yok2WolfeMTAlphaE1FiniteVec(&g) {
 			out.status = YOK2WolfeMTAlphaE1NonFiniteGradient
 			return out

@@ -153,6 +153,7 @@ func yok2WolfeMTAlphaE3Minimize(x0 [1]float64, lim YOK2WolfeMTAlphaE3Limits) yok
 	var g [1]float64
 	yok2WolfeMTAlphaE3Derivative(&x, fx, &g)
 	out.evaluations += yok2WolfeMTAlphaE3DerivativeCost
+
 	if !yok2WolfeMTAlphaE3FiniteVec(&g) {
 		out.status = YOK2WolfeMTAlphaE3NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func yok2WolfeMTAlphaE3Minimize(x0 [1]float64, lim YOK2WolfeMTAlphaE3Limits) yok
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !yok2WolfeMTAlphaE3FiniteVec(&g) {
 			out.status = YOK2WolfeMTAlphaE3NonFiniteGradient
 			return out

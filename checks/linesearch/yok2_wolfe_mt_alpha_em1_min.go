@@ -153,6 +153,7 @@ func yok2WolfeMTAlphaEm1Minimize(x0 [1]float64, lim YOK2WolfeMTAlphaEm1Limits) y
 	var g [1]float64
 	yok2WolfeMTAlphaEm1Derivative(&x, fx, &g)
 	out.evaluations += yok2WolfeMTAlphaEm1DerivativeCost
+
 	if !yok2WolfeMTAlphaEm1FiniteVec(&g) {
 		out.status = YOK2WolfeMTAlphaEm1NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func yok2WolfeMTAlphaEm1Minimize(x0 [1]float64, lim YOK2WolfeMTAlphaEm1Limits) y
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !yok2WolfeMTAlphaEm1FiniteVec(&g) {
 			out.status = YOK2WolfeMTAlphaEm1NonFiniteGradient
 			return out

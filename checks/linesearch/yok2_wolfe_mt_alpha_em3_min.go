@@ -153,6 +153,7 @@ func yok2WolfeMTAlphaEm3Minimize(x0 [1]float64, lim YOK2WolfeMTAlphaEm3Limits) y
 	var g [1]float64
 	yok2WolfeMTAlphaEm3Derivative(&x, fx, &g)
 	out.evaluations += yok2WolfeMTAlphaEm3DerivativeCost
+
 	if !yok2WolfeMTAlphaEm3FiniteVec(&g) {
 		out.status = YOK2WolfeMTAlphaEm3NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func yok2WolfeMTAlphaEm3Minimize(x0 [1]float64, lim YOK2WolfeMTAlphaEm3Limits) y
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !yok2WolfeMTAlphaEm3FiniteVec(&g) {
 			out.status = YOK2WolfeMTAlphaEm3NonFiniteGradient
 			return out

@@ -153,6 +153,7 @@ func yok2WolfeNWAlphaE1Minimize(x0 [1]float64, lim YOK2WolfeNWAlphaE1Limits) yok
 	var g [1]float64
 	yok2WolfeNWAlphaE1Derivative(&x, fx, &g)
 	out.evaluations += yok2WolfeNWAlphaE1DerivativeCost
+
 	if !yok2WolfeNWAlphaE1FiniteVec(&g) {
 		out.status = YOK2WolfeNWAlphaE1NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func yok2WolfeNWAlphaE1Minimize(x0 [1]float64, lim YOK2WolfeNWAlphaE1Limits) yok
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !yok2WolfeNWAlphaE1FiniteVec(&g) {
 			out.status = YOK2WolfeNWAlphaE1NonFiniteGradient
 			return out

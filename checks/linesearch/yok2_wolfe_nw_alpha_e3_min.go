@@ -153,6 +153,7 @@ func yok2WolfeNWAlphaE3Minimize(x0 [1]float64, lim YOK2WolfeNWAlphaE3Limits) yok
 	var g [1]float64
 	yok2WolfeNWAlphaE3Derivative(&x, fx, &g)
 	out.evaluations += yok2WolfeNWAlphaE3DerivativeCost
+
 	if !yok2WolfeNWAlphaE3FiniteVec(&g) {
 		out.status = YOK2WolfeNWAlphaE3NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func yok2WolfeNWAlphaE3Minimize(x0 [1]float64, lim YOK2WolfeNWAlphaE3Limits) yok
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !yok2WolfeNWAlphaE3FiniteVec(&g) {
 			out.status = YOK2WolfeNWAlphaE3NonFiniteGradient
 			return out

@@ -153,6 +153,7 @@ func yok2WolfeNWAlphaEm1Minimize(x0 [1]float64, lim YOK2WolfeNWAlphaEm1Limits) y
 	var g [1]float64
 	yok2WolfeNWAlphaEm1Derivative(&x, fx, &g)
 	out.evaluations += yok2WolfeNWAlphaEm1DerivativeCost
+
 	if !yok2WolfeNWAlphaEm1FiniteVec(&g) {
 		out.status = YOK2WolfeNWAlphaEm1NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func yok2WolfeNWAlphaEm1Minimize(x0 [1]float64, lim YOK2WolfeNWAlphaEm1Limits) y
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !yok2WolfeNWAlphaEm1FiniteVec(&g) {
 			out.status = YOK2WolfeNWAlphaEm1NonFiniteGradient
 			return out

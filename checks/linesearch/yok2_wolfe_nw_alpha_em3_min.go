@@ -153,6 +153,7 @@ func yok2WolfeNWAlphaEm3Minimize(x0 [1]float64, lim YOK2WolfeNWAlphaEm3Limits) y
 	var g [1]float64
 	yok2WolfeNWAlphaEm3Derivative(&x, fx, &g)
 	out.evaluations += yok2WolfeNWAlphaEm3DerivativeCost
+
 	if !yok2WolfeNWAlphaEm3FiniteVec(&g) {
 		out.status = YOK2WolfeNWAlphaEm3NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func yok2WolfeNWAlphaEm3Minimize(x0 [1]float64, lim YOK2WolfeNWAlphaEm3Limits) y
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !yok2WolfeNWAlphaEm3FiniteVec(&g) {
 			out.status = YOK2WolfeNWAlphaEm3NonFiniteGradient
 			return out

@@ -153,6 +153,7 @@ func yok3StrongWolfeMTAlphaE1Minimize(x0 [1]float64, lim YOK3StrongWolfeMTAlphaE
 	var g [1]float64
 	yok3StrongWolfeMTAlphaE1Derivative(&x, fx, &g)
 	out.evaluations += yok3StrongWolfeMTAlphaE1DerivativeCost
+
 	if !yok3StrongWolfeMTAlphaE1FiniteVec(&g) {
 		out.status = YOK3StrongWolfeMTAlphaE1NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func yok3StrongWolfeMTAlphaE1Minimize(x0 [1]float64, lim YOK3StrongWolfeMTAlphaE
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !yok3StrongWolfeMTAlphaE1FiniteVec(&g) {
 			out.status = YOK3StrongWolfeMTAlphaE1NonFiniteGradient
 			return out

@@ -153,6 +153,7 @@ func yok3StrongWolfeMTAlphaE3Minimize(x0 [1]float64, lim YOK3StrongWolfeMTAlphaE
 	var g [1]float64
 	yok3StrongWolfeMTAlphaE3Derivative(&x, fx, &g)
 	out.evaluations += yok3StrongWolfeMTAlphaE3DerivativeCost
+
 	if !yok3StrongWolfeMTAlphaE3FiniteVec(&g) {
 		out.status = YOK3StrongWolfeMTAlphaE3NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func yok3StrongWolfeMTAlphaE3Minimize(x0 [1]float64, lim YOK3StrongWolfeMTAlphaE
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !yok3StrongWolfeMTAlphaE3FiniteVec(&g) {
 			out.status = YOK3StrongWolfeMTAlphaE3NonFiniteGradient
 			return out

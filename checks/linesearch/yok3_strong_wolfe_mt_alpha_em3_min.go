@@ -153,6 +153,7 @@ func yok3StrongWolfeMTAlphaEm3Minimize(x0 [1]float64, lim YOK3StrongWolfeMTAlpha
 	var g [1]float64
 	yok3StrongWolfeMTAlphaEm3Derivative(&x, fx, &g)
 	out.evaluations += yok3StrongWolfeMTAlphaEm3DerivativeCost
+
 	if !yok3StrongWolfeMTAlphaEm3FiniteVec(&g) {
 		out.status = YOK3StrongWolfeMTAlphaEm3NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func yok3StrongWolfeMTAlphaEm3Minimize(x0 [1]float64, lim YOK3StrongWolfeMTAlpha
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !yok3StrongWolfeMTAlphaEm3FiniteVec(&g) {
 			out.status = YOK3StrongWolfeMTAlphaEm3NonFiniteGradient
 			return out

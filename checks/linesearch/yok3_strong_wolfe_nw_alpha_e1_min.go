@@ -153,6 +153,7 @@ func yok3StrongWolfeNWAlphaE1Minimize(x0 [1]float64, lim YOK3StrongWolfeNWAlphaE
 	var g [1]float64
 	yok3StrongWolfeNWAlphaE1Derivative(&x, fx, &g)
 	out.evaluations += yok3StrongWolfeNWAlphaE1DerivativeCost
+
 	if !yok3StrongWolfeNWAlphaE1FiniteVec(&g) {
 		out.status = YOK3StrongWolfeNWAlphaE1NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func yok3StrongWolfeNWAlphaE1Minimize(x0 [1]float64, lim YOK3StrongWolfeNWAlphaE
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !yok3StrongWolfeNWAlphaE1FiniteVec(&g) {
 			out.status = YOK3StrongWolfeNWAlphaE1NonFiniteGradient
 			return out

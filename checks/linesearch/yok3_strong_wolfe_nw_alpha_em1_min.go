@@ -153,6 +153,7 @@ func yok3StrongWolfeNWAlphaEm1Minimize(x0 [1]float64, lim YOK3StrongWolfeNWAlpha
 	var g [1]float64
 	yok3StrongWolfeNWAlphaEm1Derivative(&x, fx, &g)
 	out.evaluations += yok3StrongWolfeNWAlphaEm1DerivativeCost
+
 	if !yok3StrongWolfeNWAlphaEm1FiniteVec(&g) {
 		out.status = YOK3StrongWolfeNWAlphaEm1NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func yok3StrongWolfeNWAlphaEm1Minimize(x0 [1]float64, lim YOK3StrongWolfeNWAlpha
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !yok3StrongWolfeNWAlphaEm1FiniteVec(&g) {
 			out.status = YOK3StrongWolfeNWAlphaEm1NonFiniteGradient
 			return out

@@ -153,6 +153,7 @@ func yok3StrongWolfeNWAlphaEm3Minimize(x0 [1]float64, lim YOK3StrongWolfeNWAlpha
 	var g [1]float64
 	yok3StrongWolfeNWAlphaEm3Derivative(&x, fx, &g)
 	out.evaluations += yok3StrongWolfeNWAlphaEm3DerivativeCost
+
 	if !yok3StrongWolfeNWAlphaEm3FiniteVec(&g) {
 		out.status = YOK3StrongWolfeNWAlphaEm3NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func yok3StrongWolfeNWAlphaEm3Minimize(x0 [1]float64, lim YOK3StrongWolfeNWAlpha
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !yok3StrongWolfeNWAlphaEm3FiniteVec(&g) {
 			out.status = YOK3StrongWolfeNWAlphaEm3NonFiniteGradient
 			return out

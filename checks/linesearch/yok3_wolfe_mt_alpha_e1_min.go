@@ -153,6 +153,7 @@ func yok3WolfeMTAlphaE1Minimize(x0 [1]float64, lim YOK3WolfeMTAlphaE1Limits) yok
 	var g [1]float64
 	yok3WolfeMTAlphaE1Derivative(&x, fx, &g)
 	out.evaluations += yok3WolfeMTAlphaE1DerivativeCost
+
 	if !yok3WolfeMTAlphaE1FiniteVec(&g) {
 		out.status = YOK3WolfeMTAlphaE1NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func yok3WolfeMTAlphaE1Minimize(x0 [1]float64, lim YOK3WolfeMTAlphaE1Limits) yok
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !yok3WolfeMTAlphaE1FiniteVec(&g) {
 			out.status = YOK3WolfeMTAlphaE1NonFiniteGradient
 			return out

@@ -153,6 +153,7 @@ func yok3WolfeMTAlphaE3Minimize(x0 [1]float64, lim YOK3WolfeMTAlphaE3Limits) yok
 	var g [1]float64
 	yok3WolfeMTAlphaE3Derivative(&x, fx, &g)
 	out.evaluations += yok3WolfeMTAlphaE3DerivativeCost
+
 	if !yok3WolfeMTAlphaE3FiniteVec(&g) {
 		out.status = YOK3WolfeMTAlphaE3NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func yok3WolfeMTAlphaE3Minimize(x0 [1]float64, lim YOK3WolfeMTAlphaE3Limits) yok
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !yok3WolfeMTAlphaE3FiniteVec(&g) {
 			out.status = YOK3WolfeMTAlphaE3NonFiniteGradient
 			return out

@@ -153,6 +153,7 @@ func yok3WolfeMTAlphaEm1Minimize(x0 [1]float64, lim YOK3WolfeMTAlphaEm1Limits) y
 	var g [1]float64
 	yok3WolfeMTAlphaEm1Derivative(&x, fx, &g)
 	out.evaluations += yok3WolfeMTAlphaEm1DerivativeCost
+
 	if !yok3WolfeMTAlphaEm1FiniteVec(&g) {
 		out.status = YOK3WolfeMTAlphaEm1NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func yok3WolfeMTAlphaEm1Minimize(x0 [1]float64, lim YOK3WolfeMTAlphaEm1Limits) y
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !yok3WolfeMTAlphaEm1FiniteVec(&g) {
 			out.status = YOK3WolfeMTAlphaEm1NonFiniteGradient
 			return out

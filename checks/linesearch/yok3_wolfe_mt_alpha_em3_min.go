@@ -153,6 +153,7 @@ func yok3WolfeMTAlphaEm3Minimize(x0 [1]float64, lim YOK3WolfeMTAlphaEm3Limits) y
 	var g [1]float64
 	yok3WolfeMTAlphaEm3Derivative(&x, fx, &g)
 	out.evaluations += yok3WolfeMTAlphaEm3DerivativeCost
+
 	if !yok3WolfeMTAlphaEm3FiniteVec(&g) {
 		out.status = YOK3WolfeMTAlphaEm3NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func yok3WolfeMTAlphaEm3Minimize(x0 [1]float64, lim YOK3WolfeMTAlphaEm3Limits) y
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !yok3WolfeMTAlphaEm3FiniteVec(&g) {
 			out.status = YOK3WolfeMTAlphaEm3NonFiniteGradient
 			return out

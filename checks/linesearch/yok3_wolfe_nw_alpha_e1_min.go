@@ -153,6 +153,7 @@ func yok3WolfeNWAlphaE1Minimize(x0 [1]float64, lim YOK3WolfeNWAlphaE1Limits) yok
 	var g [1]float64
 	yok3WolfeNWAlphaE1Derivative(&x, fx, &g)
 	out.evaluations += yok3WolfeNWAlphaE1DerivativeCost
+
 	if !yok3WolfeNWAlphaE1FiniteVec(&g) {
 		out.status = YOK3WolfeNWAlphaE1NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func yok3WolfeNWAlphaE1Minimize(x0 [1]float64, lim YOK3WolfeNWAlphaE1Limits) yok
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !yok3WolfeNWAlphaE1FiniteVec(&g) {
 			out.status = YOK3WolfeNWAlphaE1NonFiniteGradient
 			return out

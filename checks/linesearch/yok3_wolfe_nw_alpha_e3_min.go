@@ -153,6 +153,7 @@ func yok3WolfeNWAlphaE3Minimize(x0 [1]float64, lim YOK3WolfeNWAlphaE3Limits) yok
 	var g [1]float64
 	yok3WolfeNWAlphaE3Derivative(&x, fx, &g)
 	out.evaluations += yok3WolfeNWAlphaE3DerivativeCost
+
 	if !yok3WolfeNWAlphaE3FiniteVec(&g) {
 		out.status = YOK3WolfeNWAlphaE3NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func yok3WolfeNWAlphaE3Minimize(x0 [1]float64, lim YOK3WolfeNWAlphaE3Limits) yok
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !yok3WolfeNWAlphaE3FiniteVec(&g) {
 			out.status = YOK3WolfeNWAlphaE3NonFiniteGradient
 			return out

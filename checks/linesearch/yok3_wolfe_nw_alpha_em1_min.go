@@ -153,6 +153,7 @@ func yok3WolfeNWAlphaEm1Minimize(x0 [1]float64, lim YOK3WolfeNWAlphaEm1Limits) y
 	var g [1]float64
 	yok3WolfeNWAlphaEm1Derivative(&x, fx, &g)
 	out.evaluations += yok3WolfeNWAlphaEm1DerivativeCost
+
 	if !yok3WolfeNWAlphaEm1FiniteVec(&g) {
 		out.status = YOK3WolfeNWAlphaEm1NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func yok3WolfeNWAlphaEm1Minimize(x0 [1]float64, lim YOK3WolfeNWAlphaEm1Limits) y
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !yok3WolfeNWAlphaEm1FiniteVec(&g) {
 			out.status = YOK3WolfeNWAlphaEm1NonFiniteGradient
 			return out

@@ -153,6 +153,7 @@ func yok3WolfeNWAlphaEm3Minimize(x0 [1]float64, lim YOK3WolfeNWAlphaEm3Limits) y
 	var g [1]float64
 	yok3WolfeNWAlphaEm3Derivative(&x, fx, &g)
 	out.evaluations += yok3WolfeNWAlphaEm3DerivativeCost
+
 	if !yok3WolfeNWAlphaEm3FiniteVec(&g) {
 		out.status = YOK3WolfeNWAlphaEm3NonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func yok3WolfeNWAlphaEm3Minimize(x0 [1]float64, lim YOK3WolfeNWAlphaEm3Limits) y
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !yok3WolfeNWAlphaEm3FiniteVec(&g) {
 			out.status = YOK3WolfeNWAlphaEm3NonFiniteGradient
 			return out

@@ -153,6 +153,7 @@ func bealeBFGSAnalyticMinimize(x0 [2]float64, lim BealeBFGSAnalyticLimits) beale
 	var g [2]float64
 	bealeBFGSAnalyticDerivative(&x, fx, &g)
 	out.evaluations += bealeBFGSAnalyticDerivativeCost
+
 	if !bealeBFGSAnalyticFiniteVec(&g) {
 		out.status = BealeBFGSAnalyticNonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func bealeBFGSAnalyticMinimize(x0 [2]float64, lim BealeBFGSAnalyticLimits) beale
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !bealeBFGSAnalyticFiniteVec(&g) {
 			out.status = BealeBFGSAnalyticNonFiniteGradient
 			return out

@@ -154,6 +154,7 @@ func bealeBFGSCentralMinimize(x0 [2]float64, lim BealeBFGSCentralLimits) bealeBF
 	var g [2]float64
 	bealeBFGSCentralDerivative(&x, fx, &g)
 	out.evaluations += bealeBFGSCentralDerivativeCost
+
 	if !bealeBFGSCentralFiniteVec(&g) {
 		out.status = BealeBFGSCentralNonFiniteGradient
 		return out
@@ -231,6 +232,7 @@ func bealeBFGSCentralMinimize(x0 [2]float64, lim BealeBFGSCentralLimits) bealeBF
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !bealeBFGSCentralFiniteVec(&g) {
 			out.status = BealeBFGSCentralNonFiniteGradient
 			return out

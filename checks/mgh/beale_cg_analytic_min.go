@@ -153,6 +153,7 @@ func bealeCGAnalyticMinimize(x0 [2]float64, lim BealeCGAnalyticLimits) bealeCGAn
 	var g [2]float64
 	bealeCGAnalyticDerivative(&x, fx, &g)
 	out.evaluations += bealeCGAnalyticDerivativeCost
+
 	if !bealeCGAnalyticFiniteVec(&g) {
 		out.status = BealeCGAnalyticNonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func bealeCGAnalyticMinimize(x0 [2]float64, lim BealeCGAnalyticLimits) bealeCGAn
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !bealeCGAnalyticFiniteVec(&g) {
 			out.status = BealeCGAnalyticNonFiniteGradient
 			return out

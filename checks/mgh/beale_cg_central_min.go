@@ -154,6 +154,7 @@ func bealeCGCentralMinimize(x0 [2]float64, lim BealeCGCentralLimits) bealeCGCent
 	var g [2]float64
 	bealeCGCentralDerivative(&x, fx, &g)
 	out.evaluations += bealeCGCentralDerivativeCost
+
 	if !bealeCGCentralFiniteVec(&g) {
 		out.status = BealeCGCentralNonFiniteGradient
 		return out
@@ -231,6 +232,7 @@ func bealeCGCentralMinimize(x0 [2]float64, lim BealeCGCentralLimits) bealeCGCent
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !bealeCGCentralFiniteVec(&g) {
 			out.status = BealeCGCentralNonFiniteGradient
 			return out

@@ -154,6 +154,7 @@ func bealeLBFGSAnalyticMinimize(x0 [2]float64, lim BealeLBFGSAnalyticLimits) bea
 	var g [2]float64
 	bealeLBFGSAnalyticDerivative(&x, fx, &g)
 	out.evaluations += bealeLBFGSAnalyticDerivativeCost
+
 	if !bealeLBFGSAnalyticFiniteVec(&g) {
 		out.status = BealeLBFGSAnalyticNonFiniteGradient
 		return out
@@ -231,6 +232,7 @@ func bealeLBFGSAnalyticMinimize(x0 [2]float64, lim BealeLBFGSAnalyticLimits) bea
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !bealeLBFGSAnalyticFiniteVec(&g) {
 			out.status = BealeLBFGSAnalyticNonFiniteGradient
 			return out

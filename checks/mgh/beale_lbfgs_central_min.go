@@ -155,6 +155,7 @@ func bealeLBFGSCentralMinimize(x0 [2]float64, lim BealeLBFGSCentralLimits) beale
 	var g [2]float64
 	bealeLBFGSCentralDerivative(&x, fx, &g)
 	out.evaluations += bealeLBFGSCentralDerivativeCost
+
 	if !bealeLBFGSCentralFiniteVec(&g) {
 		out.status = BealeLBFGSCentralNonFiniteGradient
 		return out
@@ -232,6 +233,7 @@ func bealeLBFGSCentralMinimize(x0 [2]float64, lim BealeLBFGSCentralLimits) beale
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !bealeLBFGSCentralFiniteVec(&g) {
 			out.status = BealeLBFGSCentralNonFiniteGradient
 			return out

@@ -153,6 +153,7 @@ func biggsEXP6BFGSAnalyticMinimize(x0 [6]float64, lim BiggsEXP6BFGSAnalyticLimit
 	var g [6]float64
 	biggsEXP6BFGSAnalyticDerivative(&x, fx, &g)
 	out.evaluations += biggsEXP6BFGSAnalyticDerivativeCost
+
 	if !biggsEXP6BFGSAnalyticFiniteVec(&g) {
 		out.status = BiggsEXP6BFGSAnalyticNonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func biggsEXP6BFGSAnalyticMinimize(x0 [6]float64, lim BiggsEXP6BFGSAnalyticLimit
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !biggsEXP6BFGSAnalyticFiniteVec(&g) {
 			out.status = BiggsEXP6BFGSAnalyticNonFiniteGradient
 			return out

@@ -154,6 +154,7 @@ func biggsEXP6BFGSCentralMinimize(x0 [6]float64, lim BiggsEXP6BFGSCentralLimits)
 	var g [6]float64
 	biggsEXP6BFGSCentralDerivative(&x, fx, &g)
 	out.evaluations += biggsEXP6BFGSCentralDerivativeCost
+
 	if !biggsEXP6BFGSCentralFiniteVec(&g) {
 		out.status = BiggsEXP6BFGSCentralNonFiniteGradient
 		return out
@@ -231,6 +232,7 @@ func biggsEXP6BFGSCentralMinimize(x0 [6]float64, lim BiggsEXP6BFGSCentralLimits)
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !biggsEXP6BFGSCentralFiniteVec(&g) {
 			out.status = BiggsEXP6BFGSCentralNonFiniteGradient
 			return out

@@ -153,6 +153,7 @@ func biggsEXP6CGAnalyticMinimize(x0 [6]float64, lim BiggsEXP6CGAnalyticLimits) b
 	var g [6]float64
 	biggsEXP6CGAnalyticDerivative(&x, fx, &g)
 	out.evaluations += biggsEXP6CGAnalyticDerivativeCost
+
 	if !biggsEXP6CGAnalyticFiniteVec(&g) {
 		out.status = BiggsEXP6CGAnalyticNonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func biggsEXP6CGAnalyticMinimize(x0 [6]float64, lim BiggsEXP6CGAnalyticLimits) b
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !biggsEXP6CGAnalyticFiniteVec(&g) {
 			out.status = BiggsEXP6CGAnalyticNonFiniteGradient
 			return out

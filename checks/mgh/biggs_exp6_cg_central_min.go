@@ -154,6 +154,7 @@ func biggsEXP6CGCentralMinimize(x0 [6]float64, lim BiggsEXP6CGCentralLimits) big
 	var g [6]float64
 	biggsEXP6CGCentralDerivative(&x, fx, &g)
 	out.evaluations += biggsEXP6CGCentralDerivativeCost
+
 	if !biggsEXP6CGCentralFiniteVec(&g) {
 		out.status = BiggsEXP6CGCentralNonFiniteGradient
 		return out
@@ -231,6 +232,7 @@ func biggsEXP6CGCentralMinimize(x0 [6]float64, lim BiggsEXP6CGCentralLimits) big
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !biggsEXP6CGCentralFiniteVec(&g) {
 			out.status = BiggsEXP6CGCentralNonFiniteGradient
 			return out

@@ -154,6 +154,7 @@ func biggsEXP6LBFGSAnalyticMinimize(x0 [6]float64, lim BiggsEXP6LBFGSAnalyticLim
 	var g [6]float64
 	biggsEXP6LBFGSAnalyticDerivative(&x, fx, &g)
 	out.evaluations += biggsEXP6LBFGSAnalyticDerivativeCost
+
 	if !biggsEXP6LBFGSAnalyticFiniteVec(&g) {
 		out.status = BiggsEXP6LBFGSAnalyticNonFiniteGradient
 		return out
@@ -231,6 +232,7 @@ func biggsEXP6LBFGSAnalyticMinimize(x0 [6]float64, lim BiggsEXP6LBFGSAnalyticLim
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !biggsEXP6LBFGSAnalyticFiniteVec(&g) {
 			out.status = BiggsEXP6LBFGSAnalyticNonFiniteGradient
 			return out

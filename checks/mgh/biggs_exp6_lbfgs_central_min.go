@@ -155,6 +155,7 @@ func biggsEXP6LBFGSCentralMinimize(x0 [6]float64, lim BiggsEXP6LBFGSCentralLimit
 	var g [6]float64
 	biggsEXP6LBFGSCentralDerivative(&x, fx, &g)
 	out.evaluations += biggsEXP6LBFGSCentralDerivativeCost
+
 	if !biggsEXP6LBFGSCentralFiniteVec(&g) {
 		out.status = BiggsEXP6LBFGSCentralNonFiniteGradient
 		return out
@@ -232,6 +233,7 @@ func biggsEXP6LBFGSCentralMinimize(x0 [6]float64, lim BiggsEXP6LBFGSCentralLimit
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !biggsEXP6LBFGSCentralFiniteVec(&g) {
 			out.status = BiggsEXP6LBFGSCentralNonFiniteGradient
 			return out

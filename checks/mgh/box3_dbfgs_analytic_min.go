@@ -153,6 +153,7 @@ func box3DBFGSAnalyticMinimize(x0 [3]float64, lim Box3DBFGSAnalyticLimits) box3D
 	var g [3]float64
 	box3DBFGSAnalyticDerivative(&x, fx, &g)
 	out.evaluations += box3DBFGSAnalyticDerivativeCost
+
 	if !box3DBFGSAnalyticFiniteVec(&g) {
 		out.status = Box3DBFGSAnalyticNonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func box3DBFGSAnalyticMinimize(x0 [3]float64, lim Box3DBFGSAnalyticLimits) box3D
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !box3DBFGSAnalyticFiniteVec(&g) {
 			out.status = Box3DBFGSAnalyticNonFiniteGradient
 			return out

@@ -154,6 +154,7 @@ func box3DBFGSCentralMinimize(x0 [3]float64, lim Box3DBFGSCentralLimits) box3DBF
 	var g [3]float64
 	box3DBFGSCentralDerivative(&x, fx, &g)
 	out.evaluations += box3DBFGSCentralDerivativeCost
+
 	if !box3DBFGSCentralFiniteVec(&g) {
 		out.status = Box3DBFGSCentralNonFiniteGradient
 		return out
@@ -231,6 +232,7 @@ func box3DBFGSCentralMinimize(x0 [3]float64, lim Box3DBFGSCentralLimits) box3DBF
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !box3DBFGSCentralFiniteVec(&g) {
 			out.status = Box3DBFGSCentralNonFiniteGradient
 			return out

@@ -153,6 +153,7 @@ func box3DCGAnalyticMinimize(x0 [3]float64, lim Box3DCGAnalyticLimits) box3DCGAn
 	var g [3]float64
 	box3DCGAnalyticDerivative(&x, fx, &g)
 	out.evaluations += box3DCGAnalyticDerivativeCost
+
 	if !box3DCGAnalyticFiniteVec(&g) {
 		out.status = Box3DCGAnalyticNonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func box3DCGAnalyticMinimize(x0 [3]float64, lim Box3DCGAnalyticLimits) box3DCGAn
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !box3DCGAnalyticFiniteVec(&g) {
 			out.status = Box3DCGAnalyticNonFiniteGradient
 			return out

@@ -154,6 +154,7 @@ func box3DCGCentralMinimize(x0 [3]float64, lim Box3DCGCentralLimits) box3DCGCent
 	var g [3]float64
 	box3DCGCentralDerivative(&x, fx, &g)
 	out.evaluations += box3DCGCentralDerivativeCost
+
 	if !box3DCGCentralFiniteVec(&g) {
 		out.status = Box3DCGCentralNonFiniteGradient
 		return out
@@ -231,6 +232,7 @@ func box3DCGCentralMinimize(x0 [3]float64, lim Box3DCGCentralLimits) box3DCGCent
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !box3DCGCentralFiniteVec(&g) {
 			out.status = Box3DCGCentralNonFiniteGradient
 			return out

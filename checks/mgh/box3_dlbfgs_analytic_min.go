@@ -154,6 +154,7 @@ func box3DLBFGSAnalyticMinimize(x0 [3]float64, lim Box3DLBFGSAnalyticLimits) box
 	var g [3]float64
 	box3DLBFGSAnalyticDerivative(&x, fx, &g)
 	out.evaluations += box3DLBFGSAnalyticDerivativeCost
+
 	if !box3DLBFGSAnalyticFiniteVec(&g) {
 		out.status = Box3DLBFGSAnalyticNonFiniteGradient
 		return out
@@ -231,6 +232,7 @@ func box3DLBFGSAnalyticMinimize(x0 [3]float64, lim Box3DLBFGSAnalyticLimits) box
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !box3DLBFGSAnalyticFiniteVec(&g) {
 			out.status = Box3DLBFGSAnalyticNonFiniteGradient
 			return out

@@ -155,6 +155,7 @@ func box3DLBFGSCentralMinimize(x0 [3]float64, lim Box3DLBFGSCentralLimits) box3D
 	var g [3]float64
 	box3DLBFGSCentralDerivative(&x, fx, &g)
 	out.evaluations += box3DLBFGSCentralDerivativeCost
+
 	if !box3DLBFGSCentralFiniteVec(&g) {
 		out.status = Box3DLBFGSCentralNonFiniteGradient
 		return out
@@ -232,6 +233,7 @@ func box3DLBFGSCentralMinimize(x0 [3]float64, lim Box3DLBFGSCentralLimits) box3D
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !box3DLBFGSCentralFiniteVec(&g) {
 			out.status = Box3DLBFGSCentralNonFiniteGradient
 			return out

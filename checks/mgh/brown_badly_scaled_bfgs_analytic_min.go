@@ -153,6 +153,7 @@ func brownBadlyScaledBFGSAnalyticMinimize(x0 [2]float64, lim BrownBadlyScaledBFG
 	var g [2]float64
 	brownBadlyScaledBFGSAnalyticDerivative(&x, fx, &g)
 	out.evaluations += brownBadlyScaledBFGSAnalyticDerivativeCost
+
 	if !brownBadlyScaledBFGSAnalyticFiniteVec(&g) {
 		out.status = BrownBadlyScaledBFGSAnalyticNonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func brownBadlyScaledBFGSAnalyticMinimize(x0 [2]float64, lim BrownBadlyScaledBFG
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !brownBadlyScaledBFGSAnalyticFiniteVec(&g) {
 			out.status = BrownBadlyScaledBFGSAnalyticNonFiniteGradient
 			return out

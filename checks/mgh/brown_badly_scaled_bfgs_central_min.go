@@ -154,6 +154,7 @@ func brownBadlyScaledBFGSCentralMinimize(x0 [2]float64, lim BrownBadlyScaledBFGS
 	var g [2]float64
 	brownBadlyScaledBFGSCentralDerivative(&x, fx, &g)
 	out.evaluations += brownBadlyScaledBFGSCentralDerivativeCost
+
 	if !brownBadlyScaledBFGSCentralFiniteVec(&g) {
 		out.status = BrownBadlyScaledBFGSCentralNonFiniteGradient
 		return out
@@ -231,6 +232,7 @@ func brownBadlyScaledBFGSCentralMinimize(x0 [2]float64, lim BrownBadlyScaledBFGS
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !brownBadlyScaledBFGSCentralFiniteVec(&g) {
 			out.status = BrownBadlyScaledBFGSCentralNonFiniteGradient
 			return out

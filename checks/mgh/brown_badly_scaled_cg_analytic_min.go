@@ -153,6 +153,7 @@ func brownBadlyScaledCGAnalyticMinimize(x0 [2]float64, lim BrownBadlyScaledCGAna
 	var g [2]float64
 	brownBadlyScaledCGAnalyticDerivative(&x, fx, &g)
 	out.evaluations += brownBadlyScaledCGAnalyticDerivativeCost
+
 	if !brownBadlyScaledCGAnalyticFiniteVec(&g) {
 		out.status = BrownBadlyScaledCGAnalyticNonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func brownBadlyScaledCGAnalyticMinimize(x0 [2]float64, lim BrownBadlyScaledCGAna
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !brownBadlyScaledCGAnalyticFiniteVec(&g) {
 			out.status = BrownBadlyScaledCGAnalyticNonFiniteGradient
 			return out

@@ -154,6 +154,7 @@ func brownBadlyScaledCGCentralMinimize(x0 [2]float64, lim BrownBadlyScaledCGCent
 	var g [2]float64
 	brownBadlyScaledCGCentralDerivative(&x, fx, &g)
 	out.evaluations += brownBadlyScaledCGCentralDerivativeCost
+
 	if !brownBadlyScaledCGCentralFiniteVec(&g) {
 		out.status = BrownBadlyScaledCGCentralNonFiniteGradient
 		return out
@@ -231,6 +232,7 @@ func brownBadlyScaledCGCentralMinimize(x0 [2]float64, lim BrownBadlyScaledCGCent
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !brownBadlyScaledCGCentralFiniteVec(&g) {
 			out.status = BrownBadlyScaledCGCentralNonFiniteGradient
 			return out

@@ -154,6 +154,7 @@ func brownBadlyScaledLBFGSAnalyticMinimize(x0 [2]float64, lim BrownBadlyScaledLB
 	var g [2]float64
 	brownBadlyScaledLBFGSAnalyticDerivative(&x, fx, &g)
 	out.evaluations += brownBadlyScaledLBFGSAnalyticDerivativeCost
+
 	if !brownBadlyScaledLBFGSAnalyticFiniteVec(&g) {
 		out.status = BrownBadlyScaledLBFGSAnalyticNonFiniteGradient
 		return out
@@ -231,6 +232,7 @@ func brownBadlyScaledLBFGSAnalyticMinimize(x0 [2]float64, lim BrownBadlyScaledLB
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !brownBadlyScaledLBFGSAnalyticFiniteVec(&g) {
 			out.status = BrownBadlyScaledLBFGSAnalyticNonFiniteGradient
 			return out

@@ -155,6 +155,7 @@ func brownBadlyScaledLBFGSCentralMinimize(x0 [2]float64, lim BrownBadlyScaledLBF
 	var g [2]float64
 	brownBadlyScaledLBFGSCentralDerivative(&x, fx, &g)
 	out.evaluations += brownBadlyScaledLBFGSCentralDerivativeCost
+
 	if !brownBadlyScaledLBFGSCentralFiniteVec(&g) {
 		out.status = BrownBadlyScaledLBFGSCentralNonFiniteGradient
 		return out
@@ -232,6 +233,7 @@ func brownBadlyScaledLBFGSCentralMinimize(x0 [2]float64, lim BrownBadlyScaledLBF
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !brownBadlyScaledLBFGSCentralFiniteVec(&g) {
 			out.status = BrownBadlyScaledLBFGSCentralNonFiniteGradient
 			return out

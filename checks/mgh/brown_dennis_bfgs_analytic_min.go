@@ -153,6 +153,7 @@ func brownDennisBFGSAnalyticMinimize(x0 [4]float64, lim BrownDennisBFGSAnalyticL
 	var g [4]float64
 	brownDennisBFGSAnalyticDerivative(&x, fx, &g)
 	out.evaluations += brownDennisBFGSAnalyticDerivativeCost
+
 	if !brownDennisBFGSAnalyticFiniteVec(&g) {
 		out.status = BrownDennisBFGSAnalyticNonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func brownDennisBFGSAnalyticMinimize(x0 [4]float64, lim BrownDennisBFGSAnalyticL
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !brownDennisBFGSAnalyticFiniteVec(&g) {
 			out.status = BrownDennisBFGSAnalyticNonFiniteGradient
 			return out

@@ -154,6 +154,7 @@ func brownDennisBFGSCentralMinimize(x0 [4]float64, lim BrownDennisBFGSCentralLim
 	var g [4]float64
 	brownDennisBFGSCentralDerivative(&x, fx, &g)
 	out.evaluations += brownDennisBFGSCentralDerivativeCost
+
 	if !brownDennisBFGSCentralFiniteVec(&g) {
 		out.status = BrownDennisBFGSCentralNonFiniteGradient
 		return out
@@ -231,6 +232,7 @@ func brownDennisBFGSCentralMinimize(x0 [4]float64, lim BrownDennisBFGSCentralLim
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !brownDennisBFGSCentralFiniteVec(&g) {
 			out.status = BrownDennisBFGSCentralNonFiniteGradient
 			return out

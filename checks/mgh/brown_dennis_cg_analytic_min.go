@@ -153,6 +153,7 @@ func brownDennisCGAnalyticMinimize(x0 [4]float64, lim BrownDennisCGAnalyticLimit
 	var g [4]float64
 	brownDennisCGAnalyticDerivative(&x, fx, &g)
 	out.evaluations += brownDennisCGAnalyticDerivativeCost
+
 	if !brownDennisCGAnalyticFiniteVec(&g) {
 		out.status = BrownDennisCGAnalyticNonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func brownDennisCGAnalyticMinimize(x0 [4]float64, lim BrownDennisCGAnalyticLimit
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !brownDennisCGAnalyticFiniteVec(&g) {
 			out.status = BrownDennisCGAnalyticNonFiniteGradient
 			return out

@@ -154,6 +154,7 @@ func brownDennisCGCentralMinimize(x0 [4]float64, lim BrownDennisCGCentralLimits)
 	var g [4]float64
 	brownDennisCGCentralDerivative(&x, fx, &g)
 	out.evaluations += brownDennisCGCentralDerivativeCost
+
 	if !brownDennisCGCentralFiniteVec(&g) {
 		out.status = BrownDennisCGCentralNonFiniteGradient
 		return out
@@ -231,6 +232,7 @@ func brownDennisCGCentralMinimize(x0 [4]float64, lim BrownDennisCGCentralLimits)
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !brownDennisCGCentralFiniteVec(&g) {
 			out.status = BrownDennisCGCentralNonFiniteGradient
 			return out

@@ -154,6 +154,7 @@ func brownDennisLBFGSAnalyticMinimize(x0 [4]float64, lim BrownDennisLBFGSAnalyti
 	var g [4]float64
 	brownDennisLBFGSAnalyticDerivative(&x, fx, &g)
 	out.evaluations += brownDennisLBFGSAnalyticDerivativeCost
+
 	if !brownDennisLBFGSAnalyticFiniteVec(&g) {
 		out.status = BrownDennisLBFGSAnalyticNonFiniteGradient
 		return out
@@ -231,6 +232,7 @@ func brownDennisLBFGSAnalyticMinimize(x0 [4]float64, lim BrownDennisLBFGSAnalyti
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !brownDennisLBFGSAnalyticFiniteVec(&g) {
 			out.status = BrownDennisLBFGSAnalyticNonFiniteGradient
 			return out

@@ -155,6 +155,7 @@ func brownDennisLBFGSCentralMinimize(x0 [4]float64, lim BrownDennisLBFGSCentralL
 	var g [4]float64
 	brownDennisLBFGSCentralDerivative(&x, fx, &g)
 	out.evaluations += brownDennisLBFGSCentralDerivativeCost
+
 	if !brownDennisLBFGSCentralFiniteVec(&g) {
 		out.status = BrownDennisLBFGSCentralNonFiniteGradient
 		return out
@@ -232,6 +233,7 @@ func brownDennisLBFGSCentralMinimize(x0 [4]float64, lim BrownDennisLBFGSCentralL
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !brownDennisLBFGSCentralFiniteVec(&g) {
 			out.status = BrownDennisLBFGSCentralNonFiniteGradient
 			return out

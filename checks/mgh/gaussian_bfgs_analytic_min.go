@@ -153,6 +153,7 @@ func gaussianBFGSAnalyticMinimize(x0 [3]float64, lim GaussianBFGSAnalyticLimits)
 	var g [3]float64
 	gaussianBFGSAnalyticDerivative(&x, fx, &g)
 	out.evaluations += gaussianBFGSAnalyticDerivativeCost
+
 	if !gaussianBFGSAnalyticFiniteVec(&g) {
 		out.status = GaussianBFGSAnalyticNonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func gaussianBFGSAnalyticMinimize(x0 [3]float64, lim GaussianBFGSAnalyticLimits)
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !gaussianBFGSAnalyticFiniteVec(&g) {
 			out.status = GaussianBFGSAnalyticNonFiniteGradient
 			return out

@@ -154,6 +154,7 @@ func gaussianBFGSCentralMinimize(x0 [3]float64, lim GaussianBFGSCentralLimits) g
 	var g [3]float64
 	gaussianBFGSCentralDerivative(&x, fx, &g)
 	out.evaluations += gaussianBFGSCentralDerivativeCost
+
 	if !gaussianBFGSCentralFiniteVec(&g) {
 		out.status = GaussianBFGSCentralNonFiniteGradient
 		return out
@@ -231,6 +232,7 @@ func gaussianBFGSCentralMinimize(x0 [3]float64, lim GaussianBFGSCentralLimits) g
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !gaussianBFGSCentralFiniteVec(&g) {
 			out.status = GaussianBFGSCentralNonFiniteGradient
 			return out

@@ -153,6 +153,7 @@ func gaussianCGAnalyticMinimize(x0 [3]float64, lim GaussianCGAnalyticLimits) gau
 	var g [3]float64
 	gaussianCGAnalyticDerivative(&x, fx, &g)
 	out.evaluations += gaussianCGAnalyticDerivativeCost
+
 	if !gaussianCGAnalyticFiniteVec(&g) {
 		out.status = GaussianCGAnalyticNonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func gaussianCGAnalyticMinimize(x0 [3]float64, lim GaussianCGAnalyticLimits) gau
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !gaussianCGAnalyticFiniteVec(&g) {
 			out.status = GaussianCGAnalyticNonFiniteGradient
 			return out

@@ -154,6 +154,7 @@ func gaussianCGCentralMinimize(x0 [3]float64, lim GaussianCGCentralLimits) gauss
 	var g [3]float64
 	gaussianCGCentralDerivative(&x, fx, &g)
 	out.evaluations += gaussianCGCentralDerivativeCost
+
 	if !gaussianCGCentralFiniteVec(&g) {
 		out.status = GaussianCGCentralNonFiniteGradient
 		return out
@@ -231,6 +232,7 @@ func gaussianCGCentralMinimize(x0 [3]float64, lim GaussianCGCentralLimits) gauss
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !gaussianCGCentralFiniteVec(&g) {
 			out.status = GaussianCGCentralNonFiniteGradient
 			return out

@@ -154,6 +154,7 @@ func gaussianLBFGSAnalyticMinimize(x0 [3]float64, lim GaussianLBFGSAnalyticLimit
 	var g [3]float64
 	gaussianLBFGSAnalyticDerivative(&x, fx, &g)
 	out.evaluations += gaussianLBFGSAnalyticDerivativeCost
+
 	if !gaussianLBFGSAnalyticFiniteVec(&g) {
 		out.status = GaussianLBFGSAnalyticNonFiniteGradient
 		return out
@@ -231,6 +232,7 @@ func gaussianLBFGSAnalyticMinimize(x0 [3]float64, lim GaussianLBFGSAnalyticLimit
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !gaussianLBFGSAnalyticFiniteVec(&g) {
 			out.status = GaussianLBFGSAnalyticNonFiniteGradient
 			return out

@@ -155,6 +155,7 @@ func gaussianLBFGSCentralMinimize(x0 [3]float64, lim GaussianLBFGSCentralLimits)
 	var g [3]float64
 	gaussianLBFGSCentralDerivative(&x, fx, &g)
 	out.evaluations += gaussianLBFGSCentralDerivativeCost
+
 	if !gaussianLBFGSCentralFiniteVec(&g) {
 		out.status = GaussianLBFGSCentralNonFiniteGradient
 		return out
@@ -232,6 +233,7 @@ func gaussianLBFGSCentralMinimize(x0 [3]float64, lim GaussianLBFGSCentralLimits)
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !gaussianLBFGSCentralFiniteVec(&g) {
 			out.status = GaussianLBFGSCentralNonFiniteGradient
 			return out

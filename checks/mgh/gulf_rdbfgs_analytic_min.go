@@ -153,6 +153,7 @@ func gulfRDBFGSAnalyticMinimize(x0 [3]float64, lim GulfRDBFGSAnalyticLimits) gul
 	var g [3]float64
 	gulfRDBFGSAnalyticDerivative(&x, fx, &g)
 	out.evaluations += gulfRDBFGSAnalyticDerivativeCost
+
 	if !gulfRDBFGSAnalyticFiniteVec(&g) {
 		out.status = GulfRDBFGSAnalyticNonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func gulfRDBFGSAnalyticMinimize(x0 [3]float64, lim GulfRDBFGSAnalyticLimits) gul
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !gulfRDBFGSAnalyticFiniteVec(&g) {
 			out.status = GulfRDBFGSAnalyticNonFiniteGradient
 			return out

@@ -154,6 +154,7 @@ func gulfRDBFGSCentralMinimize(x0 [3]float64, lim GulfRDBFGSCentralLimits) gulfR
 	var g [3]float64
 	gulfRDBFGSCentralDerivative(&x, fx, &g)
 	out.evaluations += gulfRDBFGSCentralDerivativeCost
+
 	if !gulfRDBFGSCentralFiniteVec(&g) {
 		out.status = GulfRDBFGSCentralNonFiniteGradient
 		return out
@@ -231,6 +232,7 @@ func gulfRDBFGSCentralMinimize(x0 [3]float64, lim GulfRDBFGSCentralLimits) gulfR
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !gulfRDBFGSCentralFiniteVec(&g) {
 			out.status = GulfRDBFGSCentralNonFiniteGradient
 			return out

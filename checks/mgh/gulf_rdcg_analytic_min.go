@@ -153,6 +153,7 @@ func gulfRDCGAnalyticMinimize(x0 [3]float64, lim GulfRDCGAnalyticLimits) gulfRDC
 	var g [3]float64
 	gulfRDCGAnalyticDerivative(&x, fx, &g)
 	out.evaluations += gulfRDCGAnalyticDerivativeCost
+
 	if !gulfRDCGAnalyticFiniteVec(&g) {
 		out.status = GulfRDCGAnalyticNonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func gulfRDCGAnalyticMinimize(x0 [3]float64, lim GulfRDCGAnalyticLimits) gulfRDC
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !gulfRDCGAnalyticFiniteVec(&g) {
 			out.status = GulfRDCGAnalyticNonFiniteGradient
 			return out

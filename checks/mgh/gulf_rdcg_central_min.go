@@ -154,6 +154,7 @@ func gulfRDCGCentralMinimize(x0 [3]float64, lim GulfRDCGCentralLimits) gulfRDCGC
 	var g [3]float64
 	gulfRDCGCentralDerivative(&x, fx, &g)
 	out.evaluations += gulfRDCGCentralDerivativeCost
+
 	if !gulfRDCGCentralFiniteVec(&g) {
 		out.status = GulfRDCGCentralNonFiniteGradient
 		return out
@@ -231,6 +232,7 @@ func gulfRDCGCentralMinimize(x0 [3]float64, lim GulfRDCGCentralLimits) gulfRDCGC
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !gulfRDCGCentralFiniteVec(&g) {
 			out.status = GulfRDCGCentralNonFiniteGradient
 			return out

@@ -154,6 +154,7 @@ func gulfRDLBFGSAnalyticMinimize(x0 [3]float64, lim GulfRDLBFGSAnalyticLimits) g
 	var g [3]float64
 	gulfRDLBFGSAnalyticDerivative(&x, fx, &g)
 	out.evaluations += gulfRDLBFGSAnalyticDerivativeCost
+
 	if !gulfRDLBFGSAnalyticFiniteVec(&g) {
 		out.status = GulfRDLBFGSAnalyticNonFiniteGradient
 		return out
@@ -231,6 +232,7 @@ func gulfRDLBFGSAnalyticMinimize(x0 [3]float64, lim GulfRDLBFGSAnalyticLimits) g
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !gulfRDLBFGSAnalyticFiniteVec(&g) {
 			out.status = GulfRDLBFGSAnalyticNonFiniteGradient
 			return out

@@ -155,6 +155,7 @@ func gulfRDLBFGSCentralMinimize(x0 [3]float64, lim GulfRDLBFGSCentralLimits) gul
 	var g [3]float64
 	gulfRDLBFGSCentralDerivative(&x, fx, &g)
 	out.evaluations += gulfRDLBFGSCentralDerivativeCost
+
 	if !gulfRDLBFGSCentralFiniteVec(&g) {
 		out.status = GulfRDLBFGSCentralNonFiniteGradient
 		return out
@@ -232,6 +233,7 @@ func gulfRDLBFGSCentralMinimize(x0 [3]float64, lim GulfRDLBFGSCentralLimits) gul
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !gulfRDLBFGSCentralFiniteVec(&g) {
 			out.status = GulfRDLBFGSCentralNonFiniteGradient
 			return out

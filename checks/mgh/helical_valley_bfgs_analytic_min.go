@@ -153,6 +153,7 @@ func helicalValleyBFGSAnalyticMinimize(x0 [3]float64, lim HelicalValleyBFGSAnaly
 	var g [3]float64
 	helicalValleyBFGSAnalyticDerivative(&x, fx, &g)
 	out.evaluations += helicalValleyBFGSAnalyticDerivativeCost
+
 	if !helicalValleyBFGSAnalyticFiniteVec(&g) {
 		out.status = HelicalValleyBFGSAnalyticNonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func helicalValleyBFGSAnalyticMinimize(x0 [3]float64, lim HelicalValleyBFGSAnaly
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !helicalValleyBFGSAnalyticFiniteVec(&g) {
 			out.status = HelicalValleyBFGSAnalyticNonFiniteGradient
 			return out

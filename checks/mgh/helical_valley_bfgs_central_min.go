@@ -154,6 +154,7 @@ func helicalValleyBFGSCentralMinimize(x0 [3]float64, lim HelicalValleyBFGSCentra
 	var g [3]float64
 	helicalValleyBFGSCentralDerivative(&x, fx, &g)
 	out.evaluations += helicalValleyBFGSCentralDerivativeCost
+
 	if !helicalValleyBFGSCentralFiniteVec(&g) {
 		out.status = HelicalValleyBFGSCentralNonFiniteGradient
 		return out
@@ -231,6 +232,7 @@ func helicalValleyBFGSCentralMinimize(x0 [3]float64, lim HelicalValleyBFGSCentra
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !helicalValleyBFGSCentralFiniteVec(&g) {
 			out.status = HelicalValleyBFGSCentralNonFiniteGradient
 			return out

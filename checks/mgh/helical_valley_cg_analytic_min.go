@@ -153,6 +153,7 @@ func helicalValleyCGAnalyticMinimize(x0 [3]float64, lim HelicalValleyCGAnalyticL
 	var g [3]float64
 	helicalValleyCGAnalyticDerivative(&x, fx, &g)
 	out.evaluations += helicalValleyCGAnalyticDerivativeCost
+
 	if !helicalValleyCGAnalyticFiniteVec(&g) {
 		out.status = HelicalValleyCGAnalyticNonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func helicalValleyCGAnalyticMinimize(x0 [3]float64, lim HelicalValleyCGAnalyticL
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !helicalValleyCGAnalyticFiniteVec(&g) {
 			out.status = HelicalValleyCGAnalyticNonFiniteGradient
 			return out

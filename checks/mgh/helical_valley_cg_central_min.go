@@ -154,6 +154,7 @@ func helicalValleyCGCentralMinimize(x0 [3]float64, lim HelicalValleyCGCentralLim
 	var g [3]float64
 	helicalValleyCGCentralDerivative(&x, fx, &g)
 	out.evaluations += helicalValleyCGCentralDerivativeCost
+
 	if !helicalValleyCGCentralFiniteVec(&g) {
 		out.status = HelicalValleyCGCentralNonFiniteGradient
 		return out
@@ -231,6 +232,7 @@ func helicalValleyCGCentralMinimize(x0 [3]float64, lim HelicalValleyCGCentralLim
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !helicalValleyCGCentralFiniteVec(&g) {
 			out.status = HelicalValleyCGCentralNonFiniteGradient
 			return out

@@ -154,6 +154,7 @@ func helicalValleyLBFGSAnalyticMinimize(x0 [3]float64, lim HelicalValleyLBFGSAna
 	var g [3]float64
 	helicalValleyLBFGSAnalyticDerivative(&x, fx, &g)
 	out.evaluations += helicalValleyLBFGSAnalyticDerivativeCost
+
 	if !helicalValleyLBFGSAnalyticFiniteVec(&g) {
 		out.status = HelicalValleyLBFGSAnalyticNonFiniteGradient
 		return out
@@ -231,6 +232,7 @@ func helicalValleyLBFGSAnalyticMinimize(x0 [3]float64, lim HelicalValleyLBFGSAna
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !helicalValleyLBFGSAnalyticFiniteVec(&g) {
 			out.status = HelicalValleyLBFGSAnalyticNonFiniteGradient
 			return out

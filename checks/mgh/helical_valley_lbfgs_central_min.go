@@ -155,6 +155,7 @@ func helicalValleyLBFGSCentralMinimize(x0 [3]float64, lim HelicalValleyLBFGSCent
 	var g [3]float64
 	helicalValleyLBFGSCentralDerivative(&x, fx, &g)
 	out.evaluations += helicalValleyLBFGSCentralDerivativeCost
+
 	if !helicalValleyLBFGSCentralFiniteVec(&g) {
 		out.status = HelicalValleyLBFGSCentralNonFiniteGradient
 		return out
@@ -232,6 +233,7 @@ func helicalValleyLBFGSCentralMinimize(x0 [3]float64, lim HelicalValleyLBFGSCent
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !helicalValleyLBFGSCentralFiniteVec(&g) {
 			out.status = HelicalValleyLBFGSCentralNonFiniteGradient
 			return out

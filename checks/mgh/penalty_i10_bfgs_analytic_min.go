@@ -153,6 +153,7 @@ func penaltyI10BFGSAnalyticMinimize(x0 [10]float64, lim PenaltyI10BFGSAnalyticLi
 	var g [10]float64
 	penaltyI10BFGSAnalyticDerivative(&x, fx, &g)
 	out.evaluations += penaltyI10BFGSAnalyticDerivativeCost
+
 	if !penaltyI10BFGSAnalyticFiniteVec(&g) {
 		out.status = PenaltyI10BFGSAnalyticNonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func penaltyI10BFGSAnalyticMinimize(x0 [10]float64, lim PenaltyI10BFGSAnalyticLi
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !penaltyI10BFGSAnalyticFiniteVec(&g) {
 			out.status = PenaltyI10BFGSAnalyticNonFiniteGradient
 			return out

@@ -154,6 +154,7 @@ func penaltyI10BFGSCentralMinimize(x0 [10]float64, lim PenaltyI10BFGSCentralLimi
 	var g [10]float64
 	penaltyI10BFGSCentralDerivative(&x, fx, &g)
 	out.evaluations += penaltyI10BFGSCentralDerivativeCost
+
 	if !penaltyI10BFGSCentralFiniteVec(&g) {
 		out.status = PenaltyI10BFGSCentralNonFiniteGradient
 		return out
@@ -231,6 +232,7 @@ func penaltyI10BFGSCentralMinimize(x0 [10]float64, lim PenaltyI10BFGSCentralLimi
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !penaltyI10BFGSCentralFiniteVec(&g) {
 			out.status = PenaltyI10BFGSCentralNonFiniteGradient
 			return out

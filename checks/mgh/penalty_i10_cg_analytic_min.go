@@ -153,6 +153,7 @@ func penaltyI10CGAnalyticMinimize(x0 [10]float64, lim PenaltyI10CGAnalyticLimits
 	var g [10]float64
 	penaltyI10CGAnalyticDerivative(&x, fx, &g)
 	out.evaluations += penaltyI10CGAnalyticDerivativeCost
+
 	if !penaltyI10CGAnalyticFiniteVec(&g) {
 		out.status = PenaltyI10CGAnalyticNonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func penaltyI10CGAnalyticMinimize(x0 [10]float64, lim PenaltyI10CGAnalyticLimits
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !penaltyI10CGAnalyticFiniteVec(&g) {
 			out.status = PenaltyI10CGAnalyticNonFiniteGradient
 			return out

@@ -154,6 +154,7 @@ func penaltyI10CGCentralMinimize(x0 [10]float64, lim PenaltyI10CGCentralLimits) 
 	var g [10]float64
 	penaltyI10CGCentralDerivative(&x, fx, &g)
 	out.evaluations += penaltyI10CGCentralDerivativeCost
+
 	if !penaltyI10CGCentralFiniteVec(&g) {
 		out.status = PenaltyI10CGCentralNonFiniteGradient
 		return out
@@ -231,6 +232,7 @@ func penaltyI10CGCentralMinimize(x0 [10]float64, lim PenaltyI10CGCentralLimits) 
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !penaltyI10CGCentralFiniteVec(&g) {
 			out.status = PenaltyI10CGCentralNonFiniteGradient
 			return out

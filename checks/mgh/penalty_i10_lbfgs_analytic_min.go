@@ -154,6 +154,7 @@ func penaltyI10LBFGSAnalyticMinimize(x0 [10]float64, lim PenaltyI10LBFGSAnalytic
 	var g [10]float64
 	penaltyI10LBFGSAnalyticDerivative(&x, fx, &g)
 	out.evaluations += penaltyI10LBFGSAnalyticDerivativeCost
+
 	if !penaltyI10LBFGSAnalyticFiniteVec(&g) {
 		out.status = PenaltyI10LBFGSAnalyticNonFiniteGradient
 		return out
@@ -231,6 +232,7 @@ func penaltyI10LBFGSAnalyticMinimize(x0 [10]float64, lim PenaltyI10LBFGSAnalytic
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !penaltyI10LBFGSAnalyticFiniteVec(&g) {
 			out.status = PenaltyI10LBFGSAnalyticNonFiniteGradient
 			return out

@@ -155,6 +155,7 @@ func penaltyI10LBFGSCentralMinimize(x0 [10]float64, lim PenaltyI10LBFGSCentralLi
 	var g [10]float64
 	penaltyI10LBFGSCentralDerivative(&x, fx, &g)
 	out.evaluations += penaltyI10LBFGSCentralDerivativeCost
+
 	if !penaltyI10LBFGSCentralFiniteVec(&g) {
 		out.status = PenaltyI10LBFGSCentralNonFiniteGradient
 		return out
@@ -232,6 +233,7 @@ func penaltyI10LBFGSCentralMinimize(x0 [10]float64, lim PenaltyI10LBFGSCentralLi
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !penaltyI10LBFGSCentralFiniteVec(&g) {
 			out.status = PenaltyI10LBFGSCentralNonFiniteGradient
 			return out

@@ -153,6 +153,7 @@ func penaltyI4BFGSAnalyticMinimize(x0 [4]float64, lim PenaltyI4BFGSAnalyticLimit
 	var g [4]float64
 	penaltyI4BFGSAnalyticDerivative(&x, fx, &g)
 	out.evaluations += penaltyI4BFGSAnalyticDerivativeCost
+
 	if !penaltyI4BFGSAnalyticFiniteVec(&g) {
 		out.status = PenaltyI4BFGSAnalyticNonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func penaltyI4BFGSAnalyticMinimize(x0 [4]float64, lim PenaltyI4BFGSAnalyticLimit
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !penaltyI4BFGSAnalyticFiniteVec(&g) {
 			out.status = PenaltyI4BFGSAnalyticNonFiniteGradient
 			return out

@@ -154,6 +154,7 @@ func penaltyI4BFGSCentralMinimize(x0 [4]float64, lim PenaltyI4BFGSCentralLimits)
 	var g [4]float64
 	penaltyI4BFGSCentralDerivative(&x, fx, &g)
 	out.evaluations += penaltyI4BFGSCentralDerivativeCost
+
 	if !penaltyI4BFGSCentralFiniteVec(&g) {
 		out.status = PenaltyI4BFGSCentralNonFiniteGradient
 		return out
@@ -231,6 +232,7 @@ func penaltyI4BFGSCentralMinimize(x0 [4]float64, lim PenaltyI4BFGSCentralLimits)
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !penaltyI4BFGSCentralFiniteVec(&g) {
 			out.status = PenaltyI4BFGSCentralNonFiniteGradient
 			return out

@@ -153,6 +153,7 @@ func penaltyI4CGAnalyticMinimize(x0 [4]float64, lim PenaltyI4CGAnalyticLimits) p
 	var g [4]float64
 	penaltyI4CGAnalyticDerivative(&x, fx, &g)
 	out.evaluations += penaltyI4CGAnalyticDerivativeCost
+
 	if !penaltyI4CGAnalyticFiniteVec(&g) {
 		out.status = PenaltyI4CGAnalyticNonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func penaltyI4CGAnalyticMinimize(x0 [4]float64, lim PenaltyI4CGAnalyticLimits) p
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !penaltyI4CGAnalyticFiniteVec(&g) {
 			out.status = PenaltyI4CGAnalyticNonFiniteGradient
 			return out

@@ -154,6 +154,7 @@ func penaltyI4CGCentralMinimize(x0 [4]float64, lim PenaltyI4CGCentralLimits) pen
 	var g [4]float64
 	penaltyI4CGCentralDerivative(&x, fx, &g)
 	out.evaluations += penaltyI4CGCentralDerivativeCost
+
 	if !penaltyI4CGCentralFiniteVec(&g) {
 		out.status = PenaltyI4CGCentralNonFiniteGradient
 		return out
@@ -231,6 +232,7 @@ func penaltyI4CGCentralMinimize(x0 [4]float64, lim PenaltyI4CGCentralLimits) pen
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !penaltyI4CGCentralFiniteVec(&g) {
 			out.status = PenaltyI4CGCentralNonFiniteGradient
 			return out

@@ -154,6 +154,7 @@ func penaltyI4LBFGSAnalyticMinimize(x0 [4]float64, lim PenaltyI4LBFGSAnalyticLim
 	var g [4]float64
 	penaltyI4LBFGSAnalyticDerivative(&x, fx, &g)
 	out.evaluations += penaltyI4LBFGSAnalyticDerivativeCost
+
 	if !penaltyI4LBFGSAnalyticFiniteVec(&g) {
 		out.status = PenaltyI4LBFGSAnalyticNonFiniteGradient
 		return out
@@ -231,6 +232,7 @@ func penaltyI4LBFGSAnalyticMinimize(x0 [4]float64, lim PenaltyI4LBFGSAnalyticLim
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !penaltyI4LBFGSAnalyticFiniteVec(&g) {
 			out.status = PenaltyI4LBFGSAnalyticNonFiniteGradient
 			return out

@@ -155,6 +155,7 @@ func penaltyI4LBFGSCentralMinimize(x0 [4]float64, lim PenaltyI4LBFGSCentralLimit
 	var g [4]float64
 	penaltyI4LBFGSCentralDerivative(&x, fx, &g)
 	out.evaluations += penaltyI4LBFGSCentralDerivativeCost
+
 	if !penaltyI4LBFGSCentralFiniteVec(&g) {
 		out.status = PenaltyI4LBFGSCentralNonFiniteGradient
 		return out
@@ -232,6 +233,7 @@ func penaltyI4LBFGSCentralMinimize(x0 [4]float64, lim PenaltyI4LBFGSCentralLimit
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !penaltyI4LBFGSCentralFiniteVec(&g) {
 			out.status = PenaltyI4LBFGSCentralNonFiniteGradient
 			return out

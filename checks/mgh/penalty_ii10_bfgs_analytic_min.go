@@ -153,6 +153,7 @@ func penaltyII10BFGSAnalyticMinimize(x0 [10]float64, lim PenaltyII10BFGSAnalytic
 	var g [10]float64
 	penaltyII10BFGSAnalyticDerivative(&x, fx, &g)
 	out.evaluations += penaltyII10BFGSAnalyticDerivativeCost
+
 	if !penaltyII10BFGSAnalyticFiniteVec(&g) {
 		out.status = PenaltyII10BFGSAnalyticNonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func penaltyII10BFGSAnalyticMinimize(x0 [10]float64, lim PenaltyII10BFGSAnalytic
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !penaltyII10BFGSAnalyticFiniteVec(&g) {
 			out.status = PenaltyII10BFGSAnalyticNonFiniteGradient
 			return out

@@ -154,6 +154,7 @@ func penaltyII10BFGSCentralMinimize(x0 [10]float64, lim PenaltyII10BFGSCentralLi
 	var g [10]float64
 	penaltyII10BFGSCentralDerivative(&x, fx, &g)
 	out.evaluations += penaltyII10BFGSCentralDerivativeCost
+
 	if !penaltyII10BFGSCentralFiniteVec(&g) {
 		out.status = PenaltyII10BFGSCentralNonFiniteGradient
 		return out
@@ -231,6 +232,7 @@ func penaltyII10BFGSCentralMinimize(x0 [10]float64, lim PenaltyII10BFGSCentralLi
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !penaltyII10BFGSCentralFiniteVec(&g) {
 			out.status = PenaltyII10BFGSCentralNonFiniteGradient
 			return out

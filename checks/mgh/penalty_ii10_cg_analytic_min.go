@@ -153,6 +153,7 @@ func penaltyII10CGAnalyticMinimize(x0 [10]float64, lim PenaltyII10CGAnalyticLimi
 	var g [10]float64
 	penaltyII10CGAnalyticDerivative(&x, fx, &g)
 	out.evaluations += penaltyII10CGAnalyticDerivativeCost
+
 	if !penaltyII10CGAnalyticFiniteVec(&g) {
 		out.status = PenaltyII10CGAnalyticNonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func penaltyII10CGAnalyticMinimize(x0 [10]float64, lim PenaltyII10CGAnalyticLimi
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !penaltyII10CGAnalyticFiniteVec(&g) {
 			out.status = PenaltyII10CGAnalyticNonFiniteGradient
 			return out

@@ -154,6 +154,7 @@ func penaltyII10CGCentralMinimize(x0 [10]float64, lim PenaltyII10CGCentralLimits
 	var g [10]float64
 	penaltyII10CGCentralDerivative(&x, fx, &g)
 	out.evaluations += penaltyII10CGCentralDerivativeCost
+
 	if !penaltyII10CGCentralFiniteVec(&g) {
 		out.status = PenaltyII10CGCentralNonFiniteGradient
 		return out
@@ -231,6 +232,7 @@ func penaltyII10CGCentralMinimize(x0 [10]float64, lim PenaltyII10CGCentralLimits
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !penaltyII10CGCentralFiniteVec(&g) {
 			out.status = PenaltyII10CGCentralNonFiniteGradient
 			return out

@@ -154,6 +154,7 @@ func penaltyII10LBFGSAnalyticMinimize(x0 [10]float64, lim PenaltyII10LBFGSAnalyt
 	var g [10]float64
 	penaltyII10LBFGSAnalyticDerivative(&x, fx, &g)
 	out.evaluations += penaltyII10LBFGSAnalyticDerivativeCost
+
 	if !penaltyII10LBFGSAnalyticFiniteVec(&g) {
 		out.status = PenaltyII10LBFGSAnalyticNonFiniteGradient
 		return out
@@ -231,6 +232,7 @@ func penaltyII10LBFGSAnalyticMinimize(x0 [10]float64, lim PenaltyII10LBFGSAnalyt
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !penaltyII10LBFGSAnalyticFiniteVec(&g) {
 			out.status = PenaltyII10LBFGSAnalyticNonFiniteGradient
 			return out

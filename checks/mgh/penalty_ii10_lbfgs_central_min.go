@@ -155,6 +155,7 @@ func penaltyII10LBFGSCentralMinimize(x0 [10]float64, lim PenaltyII10LBFGSCentral
 	var g [10]float64
 	penaltyII10LBFGSCentralDerivative(&x, fx, &g)
 	out.evaluations += penaltyII10LBFGSCentralDerivativeCost
+
 	if !penaltyII10LBFGSCentralFiniteVec(&g) {
 		out.status = PenaltyII10LBFGSCentralNonFiniteGradient
 		return out
@@ -232,6 +233,7 @@ func penaltyII10LBFGSCentralMinimize(x0 [10]float64, lim PenaltyII10LBFGSCentral
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !penaltyII10LBFGSCentralFiniteVec(&g) {
 			out.status = PenaltyII10LBFGSCentralNonFiniteGradient
 			return out

@@ -153,6 +153,7 @@ func penaltyII4BFGSAnalyticMinimize(x0 [4]float64, lim PenaltyII4BFGSAnalyticLim
 	var g [4]float64
 	penaltyII4BFGSAnalyticDerivative(&x, fx, &g)
 	out.evaluations += penaltyII4BFGSAnalyticDerivativeCost
+
 	if !penaltyII4BFGSAnalyticFiniteVec(&g) {
 		out.status = PenaltyII4BFGSAnalyticNonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func penaltyII4BFGSAnalyticMinimize(x0 [4]float64, lim PenaltyII4BFGSAnalyticLim
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !penaltyII4BFGSAnalyticFiniteVec(&g) {
 			out.status = PenaltyII4BFGSAnalyticNonFiniteGradient
 			return out

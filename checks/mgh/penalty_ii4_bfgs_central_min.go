@@ -154,6 +154,7 @@ func penaltyII4BFGSCentralMinimize(x0 [4]float64, lim PenaltyII4BFGSCentralLimit
 	var g [4]float64
 	penaltyII4BFGSCentralDerivative(&x, fx, &g)
 	out.evaluations += penaltyII4BFGSCentralDerivativeCost
+
 	if !penaltyII4BFGSCentralFiniteVec(&g) {
 		out.status = PenaltyII4BFGSCentralNonFiniteGradient
 		return out
@@ -231,6 +232,7 @@ func penaltyII4BFGSCentralMinimize(x0 [4]float64, lim PenaltyII4BFGSCentralLimit
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !penaltyII4BFGSCentralFiniteVec(&g) {
 			out.status = PenaltyII4BFGSCentralNonFiniteGradient
 			return out

@@ -153,6 +153,7 @@ func penaltyII4CGAnalyticMinimize(x0 [4]float64, lim PenaltyII4CGAnalyticLimits)
 	var g [4]float64
 	penaltyII4CGAnalyticDerivative(&x, fx, &g)
 	out.evaluations += penaltyII4CGAnalyticDerivativeCost
+
 	if !penaltyII4CGAnalyticFiniteVec(&g) {
 		out.status = PenaltyII4CGAnalyticNonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func penaltyII4CGAnalyticMinimize(x0 [4]float64, lim PenaltyII4CGAnalyticLimits)
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !penaltyII4CGAnalyticFiniteVec(&g) {
 			out.status = PenaltyII4CGAnalyticNonFiniteGradient
 			return out

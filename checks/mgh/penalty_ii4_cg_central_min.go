@@ -154,6 +154,7 @@ func penaltyII4CGCentralMinimize(x0 [4]float64, lim PenaltyII4CGCentralLimits) p
 	var g [4]float64
 	penaltyII4CGCentralDerivative(&x, fx, &g)
 	out.evaluations += penaltyII4CGCentralDerivativeCost
+
 	if !penaltyII4CGCentralFiniteVec(&g) {
 		out.status = PenaltyII4CGCentralNonFiniteGradient
 		return out
@@ -231,6 +232,7 @@ func penaltyII4CGCentralMinimize(x0 [4]float64, lim PenaltyII4CGCentralLimits) p
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !penaltyII4CGCentralFiniteVec(&g) {
 			out.status = PenaltyII4CGCentralNonFiniteGradient
 			return out

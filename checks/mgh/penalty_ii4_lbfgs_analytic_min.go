@@ -154,6 +154,7 @@ func penaltyII4LBFGSAnalyticMinimize(x0 [4]float64, lim PenaltyII4LBFGSAnalyticL
 	var g [4]float64
 	penaltyII4LBFGSAnalyticDerivative(&x, fx, &g)
 	out.evaluations += penaltyII4LBFGSAnalyticDerivativeCost
+
 	if !penaltyII4LBFGSAnalyticFiniteVec(&g) {
 		out.status = PenaltyII4LBFGSAnalyticNonFiniteGradient
 		return out
@@ -231,6 +232,7 @@ func penaltyII4LBFGSAnalyticMinimize(x0 [4]float64, lim PenaltyII4LBFGSAnalyticL
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !penaltyII4LBFGSAnalyticFiniteVec(&g) {
 			out.status = PenaltyII4LBFGSAnalyticNonFiniteGradient
 			return out

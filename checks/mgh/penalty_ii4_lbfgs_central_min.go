@@ -155,6 +155,7 @@ func penaltyII4LBFGSCentralMinimize(x0 [4]float64, lim PenaltyII4LBFGSCentralLim
 	var g [4]float64
 	penaltyII4LBFGSCentralDerivative(&x, fx, &g)
 	out.evaluations += penaltyII4LBFGSCentralDerivativeCost
+
 	if !penaltyII4LBFGSCentralFiniteVec(&g) {
 		out.status = PenaltyII4LBFGSCentralNonFiniteGradient
 		return out
@@ -232,6 +233,7 @@ func penaltyII4LBFGSCentralMinimize(x0 [4]float64, lim PenaltyII4LBFGSCentralLim
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !penaltyII4LBFGSCentralFiniteVec(&g) {
 			out.status = PenaltyII4LBFGSCentralNonFiniteGradient
 			return out

@@ -153,6 +153,7 @@ func powellBadlyScaledBFGSAnalyticMinimize(x0 [2]float64, lim PowellBadlyScaledB
 	var g [2]float64
 	powellBadlyScaledBFGSAnalyticDerivative(&x, fx, &g)
 	out.evaluations += powellBadlyScaledBFGSAnalyticDerivativeCost
+
 	if !powellBadlyScaledBFGSAnalyticFiniteVec(&g) {
 		out.status = PowellBadlyScaledBFGSAnalyticNonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func powellBadlyScaledBFGSAnalyticMinimize(x0 [2]float64, lim PowellBadlyScaledB
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !powellBadlyScaledBFGSAnalyticFiniteVec(&g) {
 			out.status = PowellBadlyScaledBFGSAnalyticNonFiniteGradient
 			return out

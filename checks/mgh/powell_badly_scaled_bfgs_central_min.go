@@ -154,6 +154,7 @@ func powellBadlyScaledBFGSCentralMinimize(x0 [2]float64, lim PowellBadlyScaledBF
 	var g [2]float64
 	powellBadlyScaledBFGSCentralDerivative(&x, fx, &g)
 	out.evaluations += powellBadlyScaledBFGSCentralDerivativeCost
+
 	if !powellBadlyScaledBFGSCentralFiniteVec(&g) {
 		out.status = PowellBadlyScaledBFGSCentralNonFiniteGradient
 		return out
@@ -231,6 +232,7 @@ func powellBadlyScaledBFGSCentralMinimize(x0 [2]float64, lim PowellBadlyScaledBF
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !powellBadlyScaledBFGSCentralFiniteVec(&g) {
 			out.status = PowellBadlyScaledBFGSCentralNonFiniteGradient
 			return out

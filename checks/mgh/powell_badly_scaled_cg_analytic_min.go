@@ -153,6 +153,7 @@ func powellBadlyScaledCGAnalyticMinimize(x0 [2]float64, lim PowellBadlyScaledCGA
 	var g [2]float64
 	powellBadlyScaledCGAnalyticDerivative(&x, fx, &g)
 	out.evaluations += powellBadlyScaledCGAnalyticDerivativeCost
+
 	if !powellBadlyScaledCGAnalyticFiniteVec(&g) {
 		out.status = PowellBadlyScaledCGAnalyticNonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func powellBadlyScaledCGAnalyticMinimize(x0 [2]float64, lim PowellBadlyScaledCGA
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !powellBadlyScaledCGAnalyticFiniteVec(&g) {
 			out.status = PowellBadlyScaledCGAnalyticNonFiniteGradient
 			return out

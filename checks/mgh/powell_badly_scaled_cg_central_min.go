@@ -154,6 +154,7 @@ func powellBadlyScaledCGCentralMinimize(x0 [2]float64, lim PowellBadlyScaledCGCe
 	var g [2]float64
 	powellBadlyScaledCGCentralDerivative(&x, fx, &g)
 	out.evaluations += powellBadlyScaledCGCentralDerivativeCost
+
 	if !powellBadlyScaledCGCentralFiniteVec(&g) {
 		out.status = PowellBadlyScaledCGCentralNonFiniteGradient
 		return out
@@ -231,6 +232,7 @@ func powellBadlyScaledCGCentralMinimize(x0 [2]float64, lim PowellBadlyScaledCGCe
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !powellBadlyScaledCGCentralFiniteVec(&g) {
 			out.status = PowellBadlyScaledCGCentralNonFiniteGradient
 			return out

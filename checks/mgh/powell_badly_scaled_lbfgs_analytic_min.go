@@ -154,6 +154,7 @@ func powellBadlyScaledLBFGSAnalyticMinimize(x0 [2]float64, lim PowellBadlyScaled
 	var g [2]float64
 	powellBadlyScaledLBFGSAnalyticDerivative(&x, fx, &g)
 	out.evaluations += powellBadlyScaledLBFGSAnalyticDerivativeCost
+
 	if !powellBadlyScaledLBFGSAnalyticFiniteVec(&g) {
 		out.status = PowellBadlyScaledLBFGSAnalyticNonFiniteGradient
 		return out
@@ -231,6 +232,7 @@ func powellBadlyScaledLBFGSAnalyticMinimize(x0 [2]float64, lim PowellBadlyScaled
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !powellBadlyScaledLBFGSAnalyticFiniteVec(&g) {
 			out.status = PowellBadlyScaledLBFGSAnalyticNonFiniteGradient
 			return out

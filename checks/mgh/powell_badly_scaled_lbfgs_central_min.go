@@ -155,6 +155,7 @@ func powellBadlyScaledLBFGSCentralMinimize(x0 [2]float64, lim PowellBadlyScaledL
 	var g [2]float64
 	powellBadlyScaledLBFGSCentralDerivative(&x, fx, &g)
 	out.evaluations += powellBadlyScaledLBFGSCentralDerivativeCost
+
 	if !powellBadlyScaledLBFGSCentralFiniteVec(&g) {
 		out.status = PowellBadlyScaledLBFGSCentralNonFiniteGradient
 		return out
@@ -232,6 +233,7 @@ func powellBadlyScaledLBFGSCentralMinimize(x0 [2]float64, lim PowellBadlyScaledL
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !powellBadlyScaledLBFGSCentralFiniteVec(&g) {
 			out.status = PowellBadlyScaledLBFGSCentralNonFiniteGradient
 			return out

@@ -153,6 +153,7 @@ func powellSingularBFGSAnalyticMinimize(x0 [4]float64, lim PowellSingularBFGSAna
 	var g [4]float64
 	powellSingularBFGSAnalyticDerivative(&x, fx, &g)
 	out.evaluations += powellSingularBFGSAnalyticDerivativeCost
+
 	if !powellSingularBFGSAnalyticFiniteVec(&g) {
 		out.status = PowellSingularBFGSAnalyticNonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func powellSingularBFGSAnalyticMinimize(x0 [4]float64, lim PowellSingularBFGSAna
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !powellSingularBFGSAnalyticFiniteVec(&g) {
 			out.status = PowellSingularBFGSAnalyticNonFiniteGradient
 			return out

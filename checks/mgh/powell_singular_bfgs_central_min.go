@@ -154,6 +154,7 @@ func powellSingularBFGSCentralMinimize(x0 [4]float64, lim PowellSingularBFGSCent
 	var g [4]float64
 	powellSingularBFGSCentralDerivative(&x, fx, &g)
 	out.evaluations += powellSingularBFGSCentralDerivativeCost
+
 	if !powellSingularBFGSCentralFiniteVec(&g) {
 		out.status = PowellSingularBFGSCentralNonFiniteGradient
 		return out
@@ -231,6 +232,7 @@ func powellSingularBFGSCentralMinimize(x0 [4]float64, lim PowellSingularBFGSCent
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !powellSingularBFGSCentralFiniteVec(&g) {
 			out.status = PowellSingularBFGSCentralNonFiniteGradient
 			return out

@@ -153,6 +153,7 @@ func powellSingularCGAnalyticMinimize(x0 [4]float64, lim PowellSingularCGAnalyti
 	var g [4]float64
 	powellSingularCGAnalyticDerivative(&x, fx, &g)
 	out.evaluations += powellSingularCGAnalyticDerivativeCost
+
 	if !powellSingularCGAnalyticFiniteVec(&g) {
 		out.status = PowellSingularCGAnalyticNonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func powellSingularCGAnalyticMinimize(x0 [4]float64, lim PowellSingularCGAnalyti
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !powellSingularCGAnalyticFiniteVec(&g) {
 			out.status = PowellSingularCGAnalyticNonFiniteGradient
 			return out

@@ -154,6 +154,7 @@ func powellSingularCGCentralMinimize(x0 [4]float64, lim PowellSingularCGCentralL
 	var g [4]float64
 	powellSingularCGCentralDerivative(&x, fx, &g)
 	out.evaluations += powellSingularCGCentralDerivativeCost
+
 	if !powellSingularCGCentralFiniteVec(&g) {
 		out.status = PowellSingularCGCentralNonFiniteGradient
 		return out
@@ -231,6 +232,7 @@ func powellSingularCGCentralMinimize(x0 [4]float64, lim PowellSingularCGCentralL
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !powellSingularCGCentralFiniteVec(&g) {
 			out.status = PowellSingularCGCentralNonFiniteGradient
 			return out

@@ -154,6 +154,7 @@ func powellSingularLBFGSAnalyticMinimize(x0 [4]float64, lim PowellSingularLBFGSA
 	var g [4]float64
 	powellSingularLBFGSAnalyticDerivative(&x, fx, &g)
 	out.evaluations += powellSingularLBFGSAnalyticDerivativeCost
+
 	if !powellSingularLBFGSAnalyticFiniteVec(&g) {
 		out.status = PowellSingularLBFGSAnalyticNonFiniteGradient
 		return out
@@ -231,6 +232,7 @@ func powellSingularLBFGSAnalyticMinimize(x0 [4]float64, lim PowellSingularLBFGSA
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !powellSingularLBFGSAnalyticFiniteVec(&g) {
 			out.status = PowellSingularLBFGSAnalyticNonFiniteGradient
 			return out

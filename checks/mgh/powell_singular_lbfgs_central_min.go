@@ -155,6 +155,7 @@ func powellSingularLBFGSCentralMinimize(x0 [4]float64, lim PowellSingularLBFGSCe
 	var g [4]float64
 	powellSingularLBFGSCentralDerivative(&x, fx, &g)
 	out.evaluations += powellSingularLBFGSCentralDerivativeCost
+
 	if !powellSingularLBFGSCentralFiniteVec(&g) {
 		out.status = PowellSingularLBFGSCentralNonFiniteGradient
 		return out
@@ -232,6 +233,7 @@ func powellSingularLBFGSCentralMinimize(x0 [4]float64, lim PowellSingularLBFGSCe
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !powellSingularLBFGSCentralFiniteVec(&g) {
 			out.status = PowellSingularLBFGSCentralNonFiniteGradient
 			return out

@@ -153,6 +153,7 @@ func rosenbrockBFGSAnalyticMinimize(x0 [2]float64, lim RosenbrockBFGSAnalyticLim
 	var g [2]float64
 	rosenbrockBFGSAnalyticDerivative(&x, fx, &g)
 	out.evaluations += rosenbrockBFGSAnalyticDerivativeCost
+
 	if !rosenbrockBFGSAnalyticFiniteVec(&g) {
 		out.status = RosenbrockBFGSAnalyticNonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func rosenbrockBFGSAnalyticMinimize(x0 [2]float64, lim RosenbrockBFGSAnalyticLim
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !rosenbrockBFGSAnalyticFiniteVec(&g) {
 			out.status = RosenbrockBFGSAnalyticNonFiniteGradient
 			return out

@@ -154,6 +154,7 @@ func rosenbrockBFGSCentralMinimize(x0 [2]float64, lim RosenbrockBFGSCentralLimit
 	var g [2]float64
 	rosenbrockBFGSCentralDerivative(&x, fx, &g)
 	out.evaluations += rosenbrockBFGSCentralDerivativeCost
+
 	if !rosenbrockBFGSCentralFiniteVec(&g) {
 		out.status = RosenbrockBFGSCentralNonFiniteGradient
 		return out
@@ -231,6 +232,7 @@ func rosenbrockBFGSCentralMinimize(x0 [2]float64, lim RosenbrockBFGSCentralLimit
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !rosenbrockBFGSCentralFiniteVec(&g) {
 			out.status = RosenbrockBFGSCentralNonFiniteGradient
 			return out

@@ -153,6 +153,7 @@ func rosenbrockCGAnalyticMinimize(x0 [2]float64, lim RosenbrockCGAnalyticLimits)
 	var g [2]float64
 	rosenbrockCGAnalyticDerivative(&x, fx, &g)
 	out.evaluations += rosenbrockCGAnalyticDerivativeCost
+
 	if !rosenbrockCGAnalyticFiniteVec(&g) {
 		out.status = RosenbrockCGAnalyticNonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func rosenbrockCGAnalyticMinimize(x0 [2]float64, lim RosenbrockCGAnalyticLimits)
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !rosenbrockCGAnalyticFiniteVec(&g) {
 			out.status = RosenbrockCGAnalyticNonFiniteGradient
 			return out

@@ -154,6 +154,7 @@ func rosenbrockCGCentralMinimize(x0 [2]float64, lim RosenbrockCGCentralLimits) r
 	var g [2]float64
 	rosenbrockCGCentralDerivative(&x, fx, &g)
 	out.evaluations += rosenbrockCGCentralDerivativeCost
+
 	if !rosenbrockCGCentralFiniteVec(&g) {
 		out.status = RosenbrockCGCentralNonFiniteGradient
 		return out
@@ -231,6 +232,7 @@ func rosenbrockCGCentralMinimize(x0 [2]float64, lim RosenbrockCGCentralLimits) r
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !rosenbrockCGCentralFiniteVec(&g) {
 			out.status = RosenbrockCGCentralNonFiniteGradient
 			return out

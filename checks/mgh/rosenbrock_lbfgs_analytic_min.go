@@ -154,6 +154,7 @@ func rosenbrockLBFGSAnalyticMinimize(x0 [2]float64, lim RosenbrockLBFGSAnalyticL
 	var g [2]float64
 	rosenbrockLBFGSAnalyticDerivative(&x, fx, &g)
 	out.evaluations += rosenbrockLBFGSAnalyticDerivativeCost
+
 	if !rosenbrockLBFGSAnalyticFiniteVec(&g) {
 		out.status = RosenbrockLBFGSAnalyticNonFiniteGradient
 		return out
@@ -231,6 +232,7 @@ func rosenbrockLBFGSAnalyticMinimize(x0 [2]float64, lim RosenbrockLBFGSAnalyticL
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !rosenbrockLBFGSAnalyticFiniteVec(&g) {
 			out.status = RosenbrockLBFGSAnalyticNonFiniteGradient
 			return out

@@ -155,6 +155,7 @@ func rosenbrockLBFGSCentralMinimize(x0 [2]float64, lim RosenbrockLBFGSCentralLim
 	var g [2]float64
 	rosenbrockLBFGSCentralDerivative(&x, fx, &g)
 	out.evaluations += rosenbrockLBFGSCentralDerivativeCost
+
 	if !rosenbrockLBFGSCentralFiniteVec(&g) {
 		out.status = RosenbrockLBFGSCentralNonFiniteGradient
 		return out
@@ -232,6 +233,7 @@ func rosenbrockLBFGSCentralMinimize(x0 [2]float64, lim RosenbrockLBFGSCentralLim
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !rosenbrockLBFGSCentralFiniteVec(&g) {
 			out.status = RosenbrockLBFGSCentralNonFiniteGradient
 			return out

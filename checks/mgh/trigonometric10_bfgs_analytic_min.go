@@ -153,6 +153,7 @@ func trigonometric10BFGSAnalyticMinimize(x0 [10]float64, lim Trigonometric10BFGS
 	var g [10]float64
 	trigonometric10BFGSAnalyticDerivative(&x, fx, &g)
 	out.evaluations += trigonometric10BFGSAnalyticDerivativeCost
+
 	if !trigonometric10BFGSAnalyticFiniteVec(&g) {
 		out.status = Trigonometric10BFGSAnalyticNonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func trigonometric10BFGSAnalyticMinimize(x0 [10]float64, lim Trigonometric10BFGS
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !trigonometric10BFGSAnalyticFiniteVec(&g) {
 			out.status = Trigonometric10BFGSAnalyticNonFiniteGradient
 			return out

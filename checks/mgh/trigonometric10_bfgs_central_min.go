@@ -154,6 +154,7 @@ func trigonometric10BFGSCentralMinimize(x0 [10]float64, lim Trigonometric10BFGSC
 	var g [10]float64
 	trigonometric10BFGSCentralDerivative(&x, fx, &g)
 	out.evaluations += trigonometric10BFGSCentralDerivativeCost
+
 	if !trigonometric10BFGSCentralFiniteVec(&g) {
 		out.status = Trigonometric10BFGSCentralNonFiniteGradient
 		return out
@@ -231,6 +232,7 @@ func trigonometric10BFGSCentralMinimize(x0 [10]float64, lim Trigonometric10BFGSC
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !trigonometric10BFGSCentralFiniteVec(&g) {
 			out.status = Trigonometric10BFGSCentralNonFiniteGradient
 			return out

@@ -153,6 +153,7 @@ func trigonometric10CGAnalyticMinimize(x0 [10]float64, lim Trigonometric10CGAnal
 	var g [10]float64
 	trigonometric10CGAnalyticDerivative(&x, fx, &g)
 	out.evaluations += trigonometric10CGAnalyticDerivativeCost
+
 	if !trigonometric10CGAnalyticFiniteVec(&g) {
 		out.status = Trigonometric10CGAnalyticNonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func trigonometric10CGAnalyticMinimize(x0 [10]float64, lim Trigonometric10CGAnal
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !trigonometric10CGAnalyticFiniteVec(&g) {
 			out.status = Trigonometric10CGAnalyticNonFiniteGradient
 			return out

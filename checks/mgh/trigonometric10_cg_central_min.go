@@ -154,6 +154,7 @@ func trigonometric10CGCentralMinimize(x0 [10]float64, lim Trigonometric10CGCentr
 	var g [10]float64
 	trigonometric10CGCentralDerivative(&x, fx, &g)
 	out.evaluations += trigonometric10CGCentralDerivativeCost
+
 	if !trigonometric10CGCentralFiniteVec(&g) {
 		out.status = Trigonometric10CGCentralNonFiniteGradient
 		return out
@@ -231,6 +232,7 @@ func trigonometric10CGCentralMinimize(x0 [10]float64, lim Trigonometric10CGCentr
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !trigonometric10CGCentralFiniteVec(&g) {
 			out.status = Trigonometric10CGCentralNonFiniteGradient
 			return out

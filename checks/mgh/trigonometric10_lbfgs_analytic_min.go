@@ -154,6 +154,7 @@ func trigonometric10LBFGSAnalyticMinimize(x0 [10]float64, lim Trigonometric10LBF
 	var g [10]float64
 	trigonometric10LBFGSAnalyticDerivative(&x, fx, &g)
 	out.evaluations += trigonometric10LBFGSAnalyticDerivativeCost
+
 	if !trigonometric10LBFGSAnalyticFiniteVec(&g) {
 		out.status = Trigonometric10LBFGSAnalyticNonFiniteGradient
 		return out
@@ -231,6 +232,7 @@ func trigonometric10LBFGSAnalyticMinimize(x0 [10]float64, lim Trigonometric10LBF
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !trigonometric10LBFGSAnalyticFiniteVec(&g) {
 			out.status = Trigonometric10LBFGSAnalyticNonFiniteGradient
 			return out

@@ -155,6 +155,7 @@ func trigonometric10LBFGSCentralMinimize(x0 [10]float64, lim Trigonometric10LBFG
 	var g [10]float64
 	trigonometric10LBFGSCentralDerivative(&x, fx, &g)
 	out.evaluations += trigonometric10LBFGSCentralDerivativeCost
+
 	if !trigonometric10LBFGSCentralFiniteVec(&g) {
 		out.status = Trigonometric10LBFGSCentralNonFiniteGradient
 		return out
@@ -232,6 +233,7 @@ func trigonometric10LBFGSCentralMinimize(x0 [10]float64, lim Trigonometric10LBFG
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !trigonometric10LBFGSCentralFiniteVec(&g) {
 			out.status = Trigonometric10LBFGSCentralNonFiniteGradient
 			return out

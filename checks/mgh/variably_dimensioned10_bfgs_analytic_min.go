@@ -153,6 +153,7 @@ func variablyDimensioned10BFGSAnalyticMinimize(x0 [10]float64, lim VariablyDimen
 	var g [10]float64
 	variablyDimensioned10BFGSAnalyticDerivative(&x, fx, &g)
 	out.evaluations += variablyDimensioned10BFGSAnalyticDerivativeCost
+
 	if !variablyDimensioned10BFGSAnalyticFiniteVec(&g) {
 		out.status = VariablyDimensioned10BFGSAnalyticNonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func variablyDimensioned10BFGSAnalyticMinimize(x0 [10]float64, lim VariablyDimen
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !variablyDimensioned10BFGSAnalyticFiniteVec(&g) {
 			out.status = VariablyDimensioned10BFGSAnalyticNonFiniteGradient
 			return out

@@ -154,6 +154,7 @@ func variablyDimensioned10BFGSCentralMinimize(x0 [10]float64, lim VariablyDimens
 	var g [10]float64
 	variablyDimensioned10BFGSCentralDerivative(&x, fx, &g)
 	out.evaluations += variablyDimensioned10BFGSCentralDerivativeCost
+
 	if !variablyDimensioned10BFGSCentralFiniteVec(&g) {
 		out.status = VariablyDimensioned10BFGSCentralNonFiniteGradient
 		return out
@@ -231,6 +232,7 @@ func variablyDimensioned10BFGSCentralMinimize(x0 [10]float64, lim VariablyDimens
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !variablyDimensioned10BFGSCentralFiniteVec(&g) {
 			out.status = VariablyDimensioned10BFGSCentralNonFiniteGradient
 			return out

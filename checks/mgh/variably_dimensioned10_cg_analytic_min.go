@@ -153,6 +153,7 @@ func variablyDimensioned10CGAnalyticMinimize(x0 [10]float64, lim VariablyDimensi
 	var g [10]float64
 	variablyDimensioned10CGAnalyticDerivative(&x, fx, &g)
 	out.evaluations += variablyDimensioned10CGAnalyticDerivativeCost
+
 	if !variablyDimensioned10CGAnalyticFiniteVec(&g) {
 		out.status = VariablyDimensioned10CGAnalyticNonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func variablyDimensioned10CGAnalyticMinimize(x0 [10]float64, lim VariablyDimensi
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !variablyDimensioned10CGAnalyticFiniteVec(&g) {
 			out.status = VariablyDimensioned10CGAnalyticNonFiniteGradient
 			return out

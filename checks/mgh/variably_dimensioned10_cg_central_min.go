@@ -154,6 +154,7 @@ func variablyDimensioned10CGCentralMinimize(x0 [10]float64, lim VariablyDimensio
 	var g [10]float64
 	variablyDimensioned10CGCentralDerivative(&x, fx, &g)
 	out.evaluations += variablyDimensioned10CGCentralDerivativeCost
+
 	if !variablyDimensioned10CGCentralFiniteVec(&g) {
 		out.status = VariablyDimensioned10CGCentralNonFiniteGradient
 		return out
@@ -231,6 +232,7 @@ func variablyDimensioned10CGCentralMinimize(x0 [10]float64, lim VariablyDimensio
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !variablyDimensioned10CGCentralFiniteVec(&g) {
 			out.status = VariablyDimensioned10CGCentralNonFiniteGradient
 			return out

@@ -154,6 +154,7 @@ func variablyDimensioned10LBFGSAnalyticMinimize(x0 [10]float64, lim VariablyDime
 	var g [10]float64
 	variablyDimensioned10LBFGSAnalyticDerivative(&x, fx, &g)
 	out.evaluations += variablyDimensioned10LBFGSAnalyticDerivativeCost
+
 	if !variablyDimensioned10LBFGSAnalyticFiniteVec(&g) {
 		out.status = VariablyDimensioned10LBFGSAnalyticNonFiniteGradient
 		return out
@@ -231,6 +232,7 @@ func variablyDimensioned10LBFGSAnalyticMinimize(x0 [10]float64, lim VariablyDime
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !variablyDimensioned10LBFGSAnalyticFiniteVec(&g) {
 			out.status = VariablyDimensioned10LBFGSAnalyticNonFiniteGradient
 			return out

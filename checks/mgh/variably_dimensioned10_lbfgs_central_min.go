@@ -155,6 +155,7 @@ func variablyDimensioned10LBFGSCentralMinimize(x0 [10]float64, lim VariablyDimen
 	var g [10]float64
 	variablyDimensioned10LBFGSCentralDerivative(&x, fx, &g)
 	out.evaluations += variablyDimensioned10LBFGSCentralDerivativeCost
+
 	if !variablyDimensioned10LBFGSCentralFiniteVec(&g) {
 		out.status = VariablyDimensioned10LBFGSCentralNonFiniteGradient
 		return out
@@ -232,6 +233,7 @@ func variablyDimensioned10LBFGSCentralMinimize(x0 [10]float64, lim VariablyDimen
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !variablyDimensioned10LBFGSCentralFiniteVec(&g) {
 			out.status = VariablyDimensioned10LBFGSCentralNonFiniteGradient
 			return out

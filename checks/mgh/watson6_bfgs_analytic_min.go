@@ -153,6 +153,7 @@ func watson6BFGSAnalyticMinimize(x0 [6]float64, lim Watson6BFGSAnalyticLimits) w
 	var g [6]float64
 	watson6BFGSAnalyticDerivative(&x, fx, &g)
 	out.evaluations += watson6BFGSAnalyticDerivativeCost
+
 	if !watson6BFGSAnalyticFiniteVec(&g) {
 		out.status = Watson6BFGSAnalyticNonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func watson6BFGSAnalyticMinimize(x0 [6]float64, lim Watson6BFGSAnalyticLimits) w
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !watson6BFGSAnalyticFiniteVec(&g) {
 			out.status = Watson6BFGSAnalyticNonFiniteGradient
 			return out

@@ -154,6 +154,7 @@ func watson6BFGSCentralMinimize(x0 [6]float64, lim Watson6BFGSCentralLimits) wat
 	var g [6]float64
 	watson6BFGSCentralDerivative(&x, fx, &g)
 	out.evaluations += watson6BFGSCentralDerivativeCost
+
 	if !watson6BFGSCentralFiniteVec(&g) {
 		out.status = Watson6BFGSCentralNonFiniteGradient
 		return out
@@ -231,6 +232,7 @@ func watson6BFGSCentralMinimize(x0 [6]float64, lim Watson6BFGSCentralLimits) wat
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !watson6BFGSCentralFiniteVec(&g) {
 			out.status = Watson6BFGSCentralNonFiniteGradient
 			return out

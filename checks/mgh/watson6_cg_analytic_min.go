@@ -153,6 +153,7 @@ func watson6CGAnalyticMinimize(x0 [6]float64, lim Watson6CGAnalyticLimits) watso
 	var g [6]float64
 	watson6CGAnalyticDerivative(&x, fx, &g)
 	out.evaluations += watson6CGAnalyticDerivativeCost
+
 	if !watson6CGAnalyticFiniteVec(&g) {
 		out.status = Watson6CGAnalyticNonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func watson6CGAnalyticMinimize(x0 [6]float64, lim Watson6CGAnalyticLimits) watso
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !watson6CGAnalyticFiniteVec(&g) {
 			out.status = Watson6CGAnalyticNonFiniteGradient
 			return out

@@ -154,6 +154,7 @@ func watson6CGCentralMinimize(x0 [6]float64, lim Watson6CGCentralLimits) watson6
 	var g [6]float64
 	watson6CGCentralDerivative(&x, fx, &g)
 	out.evaluations += watson6CGCentralDerivativeCost
+
 	if !watson6CGCentralFiniteVec(&g) {
 		out.status = Watson6CGCentralNonFiniteGradient
 		return out
@@ -231,6 +232,7 @@ func watson6CGCentralMinimize(x0 [6]float64, lim Watson6CGCentralLimits) watson6
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !watson6CGCentralFiniteVec(&g) {
 			out.status = Watson6CGCentralNonFiniteGradient
 			return out

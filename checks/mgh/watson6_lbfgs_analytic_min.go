@@ -154,6 +154,7 @@ func watson6LBFGSAnalyticMinimize(x0 [6]float64, lim Watson6LBFGSAnalyticLimits)
 	var g [6]float64
 	watson6LBFGSAnalyticDerivative(&x, fx, &g)
 	out.evaluations += watson6LBFGSAnalyticDerivativeCost
+
 	if !watson6LBFGSAnalyticFiniteVec(&g) {
 		out.status = Watson6LBFGSAnalyticNonFiniteGradient
 		return out
@@ -231,6 +232,7 @@ func watson6LBFGSAnalyticMinimize(x0 [6]float64, lim Watson6LBFGSAnalyticLimits)
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !watson6LBFGSAnalyticFiniteVec(&g) {
 			out.status = Watson6LBFGSAnalyticNonFiniteGradient
 			return out

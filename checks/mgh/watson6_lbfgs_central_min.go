@@ -155,6 +155,7 @@ func watson6LBFGSCentralMinimize(x0 [6]float64, lim Watson6LBFGSCentralLimits) w
 	var g [6]float64
 	watson6LBFGSCentralDerivative(&x, fx, &g)
 	out.evaluations += watson6LBFGSCentralDerivativeCost
+
 	if !watson6LBFGSCentralFiniteVec(&g) {
 		out.status = Watson6LBFGSCentralNonFiniteGradient
 		return out
@@ -232,6 +233,7 @@ func watson6LBFGSCentralMinimize(x0 [6]float64, lim Watson6LBFGSCentralLimits) w
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !watson6LBFGSCentralFiniteVec(&g) {
 			out.status = Watson6LBFGSCentralNonFiniteGradient
 			return out

@@ -153,6 +153,7 @@ func watson9BFGSAnalyticMinimize(x0 [9]float64, lim Watson9BFGSAnalyticLimits) w
 	var g [9]float64
 	watson9BFGSAnalyticDerivative(&x, fx, &g)
 	out.evaluations += watson9BFGSAnalyticDerivativeCost
+
 	if !watson9BFGSAnalyticFiniteVec(&g) {
 		out.status = Watson9BFGSAnalyticNonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func watson9BFGSAnalyticMinimize(x0 [9]float64, lim Watson9BFGSAnalyticLimits) w
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !watson9BFGSAnalyticFiniteVec(&g) {
 			out.status = Watson9BFGSAnalyticNonFiniteGradient
 			return out

@@ -154,6 +154,7 @@ func watson9BFGSCentralMinimize(x0 [9]float64, lim Watson9BFGSCentralLimits) wat
 	var g [9]float64
 	watson9BFGSCentralDerivative(&x, fx, &g)
 	out.evaluations += watson9BFGSCentralDerivativeCost
+
 	if !watson9BFGSCentralFiniteVec(&g) {
 		out.status = Watson9BFGSCentralNonFiniteGradient
 		return out
@@ -231,6 +232,7 @@ func watson9BFGSCentralMinimize(x0 [9]float64, lim Watson9BFGSCentralLimits) wat
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !watson9BFGSCentralFiniteVec(&g) {
 			out.status = Watson9BFGSCentralNonFiniteGradient
 			return out

@@ -153,6 +153,7 @@ func watson9CGAnalyticMinimize(x0 [9]float64, lim Watson9CGAnalyticLimits) watso
 	var g [9]float64
 	watson9CGAnalyticDerivative(&x, fx, &g)
 	out.evaluations += watson9CGAnalyticDerivativeCost
+
 	if !watson9CGAnalyticFiniteVec(&g) {
 		out.status = Watson9CGAnalyticNonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func watson9CGAnalyticMinimize(x0 [9]float64, lim Watson9CGAnalyticLimits) watso
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !watson9CGAnalyticFiniteVec(&g) {
 			out.status = Watson9CGAnalyticNonFiniteGradient
 			return out

@@ -154,6 +154,7 @@ func watson9CGCentralMinimize(x0 [9]float64, lim Watson9CGCentralLimits) watson9
 	var g [9]float64
 	watson9CGCentralDerivative(&x, fx, &g)
 	out.evaluations += watson9CGCentralDerivativeCost
+
 	if !watson9CGCentralFiniteVec(&g) {
 		out.status = Watson9CGCentralNonFiniteGradient
 		return out
@@ -231,6 +232,7 @@ func watson9CGCentralMinimize(x0 [9]float64, lim Watson9CGCentralLimits) watson9
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !watson9CGCentralFiniteVec(&g) {
 			out.status = Watson9CGCentralNonFiniteGradient
 			return out

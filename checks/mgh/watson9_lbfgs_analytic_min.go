@@ -154,6 +154,7 @@ func watson9LBFGSAnalyticMinimize(x0 [9]float64, lim Watson9LBFGSAnalyticLimits)
 	var g [9]float64
 	watson9LBFGSAnalyticDerivative(&x, fx, &g)
 	out.evaluations += watson9LBFGSAnalyticDerivativeCost
+
 	if !watson9LBFGSAnalyticFiniteVec(&g) {
 		out.status = Watson9LBFGSAnalyticNonFiniteGradient
 		return out
@@ -231,6 +232,7 @@ func watson9LBFGSAnalyticMinimize(x0 [9]float64, lim Watson9LBFGSAnalyticLimits)
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !watson9LBFGSAnalyticFiniteVec(&g) {
 			out.status = Watson9LBFGSAnalyticNonFiniteGradient
 			return out

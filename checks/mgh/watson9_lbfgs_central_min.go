@@ -155,6 +155,7 @@ func watson9LBFGSCentralMinimize(x0 [9]float64, lim Watson9LBFGSCentralLimits) w
 	var g [9]float64
 	watson9LBFGSCentralDerivative(&x, fx, &g)
 	out.evaluations += watson9LBFGSCentralDerivativeCost
+
 	if !watson9LBFGSCentralFiniteVec(&g) {
 		out.status = Watson9LBFGSCentralNonFiniteGradient
 		return out
@@ -232,6 +233,7 @@ func watson9LBFGSCentralMinimize(x0 [9]float64, lim Watson9LBFGSCentralLimits) w
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !watson9LBFGSCentralFiniteVec(&g) {
 			out.status = Watson9LBFGSCentralNonFiniteGradient
 			return out

@@ -153,6 +153,7 @@ func woodBFGSAnalyticMinimize(x0 [4]float64, lim WoodBFGSAnalyticLimits) woodBFG
 	var g [4]float64
 	woodBFGSAnalyticDerivative(&x, fx, &g)
 	out.evaluations += woodBFGSAnalyticDerivativeCost
+
 	if !woodBFGSAnalyticFiniteVec(&g) {
 		out.status = WoodBFGSAnalyticNonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func woodBFGSAnalyticMinimize(x0 [4]float64, lim WoodBFGSAnalyticLimits) woodBFG
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !woodBFGSAnalyticFiniteVec(&g) {
 			out.status = WoodBFGSAnalyticNonFiniteGradient
 			return out

@@ -154,6 +154,7 @@ func woodBFGSCentralMinimize(x0 [4]float64, lim WoodBFGSCentralLimits) woodBFGSC
 	var g [4]float64
 	woodBFGSCentralDerivative(&x, fx, &g)
 	out.evaluations += woodBFGSCentralDerivativeCost
+
 	if !woodBFGSCentralFiniteVec(&g) {
 		out.status = WoodBFGSCentralNonFiniteGradient
 		return out
@@ -231,6 +232,7 @@ func woodBFGSCentralMinimize(x0 [4]float64, lim WoodBFGSCentralLimits) woodBFGSC
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !woodBFGSCentralFiniteVec(&g) {
 			out.status = WoodBFGSCentralNonFiniteGradient
 			return out

@@ -153,6 +153,7 @@ func woodCGAnalyticMinimize(x0 [4]float64, lim WoodCGAnalyticLimits) woodCGAnaly
 	var g [4]float64
 	woodCGAnalyticDerivative(&x, fx, &g)
 	out.evaluations += woodCGAnalyticDerivativeCost
+
 	if !woodCGAnalyticFiniteVec(&g) {
 		out.status = WoodCGAnalyticNonFiniteGradient
 		return out
@@ -230,6 +231,7 @@ func woodCGAnalyticMinimize(x0 [4]float64, lim WoodCGAnalyticLimits) woodCGAnaly
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !woodCGAnalyticFiniteVec(&g) {
 			out.status = WoodCGAnalyticNonFiniteGradient
 			return out

@@ -154,6 +154,7 @@ func woodCGCentralMinimize(x0 [4]float64, lim WoodCGCentralLimits) woodCGCentral
 	var g [4]float64
 	woodCGCentralDerivative(&x, fx, &g)
 	out.evaluations += woodCGCentralDerivativeCost
+
 	if !woodCGCentralFiniteVec(&g) {
 		out.status = WoodCGCentralNonFiniteGradient
 		return out
@@ -231,6 +232,7 @@ func woodCGCentralMinimize(x0 [4]float64, lim WoodCGCentralLimits) woodCGCentral
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !woodCGCentralFiniteVec(&g) {
 			out.status = WoodCGCentralNonFiniteGradient
 			return out

@@ -154,6 +154,7 @@ func woodLBFGSAnalyticMinimize(x0 [4]float64, lim WoodLBFGSAnalyticLimits) woodL
 	var g [4]float64
 	woodLBFGSAnalyticDerivative(&x, fx, &g)
 	out.evaluations += woodLBFGSAnalyticDerivativeCost
+
 	if !woodLBFGSAnalyticFiniteVec(&g) {
 		out.status = WoodLBFGSAnalyticNonFiniteGradient
 		return out
@@ -231,6 +232,7 @@ func woodLBFGSAnalyticMinimize(x0 [4]float64, lim WoodLBFGSAnalyticLimits) woodL
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !woodLBFGSAnalyticFiniteVec(&g) {
 			out.status = WoodLBFGSAnalyticNonFiniteGradient
 			return out

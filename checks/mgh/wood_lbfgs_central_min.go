@@ -155,6 +155,7 @@ func woodLBFGSCentralMinimize(x0 [4]float64, lim WoodLBFGSCentralLimits) woodLBF
 	var g [4]float64
 	woodLBFGSCentralDerivative(&x, fx, &g)
 	out.evaluations += woodLBFGSCentralDerivativeCost
+
 	if !woodLBFGSCentralFiniteVec(&g) {
 		out.status = WoodLBFGSCentralNonFiniteGradient
 		return out
@@ -232,6 +233,7 @@ func woodLBFGSCentralMinimize(x0 [4]float64, lim WoodLBFGSCentralLimits) woodLBF
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
+
 		if !woodLBFGSCentralFiniteVec(&g) {
 			out.status = WoodLBFGSCentralNonFiniteGradient
 			return out

@@ -161,16 +161,9 @@ func runInit(args []string, stdout, stderr io.Writer) int {
 // runTune ranks the sensible policies on the spec's objective and start;
 // the package itself is not written to.
 func runTune(args []string, stdout, stderr io.Writer) int {
-	flags := pflag.NewFlagSet("nadir tune", pflag.ContinueOnError)
-	flags.SetOutput(io.Discard)
-	name := flags.String("name", "", "minimizer to tune (needed when the spec has several)")
-	if err := flags.Parse(args); err != nil || flags.NArg() != 1 {
-		fmt.Fprintf(stderr, "nadir tune: name one spec\n%s", usage)
-		return 2
-	}
-	plan, err := gen.SelectPlan(flags.Arg(0), *name)
-	if err != nil {
-		return report(stderr, err)
+	plan, code := choosePlan("tune", args, stderr, nil)
+	if plan == nil {
+		return code
 	}
 	rows, err := gen.Tune(plan)
 	if err != nil {
@@ -182,21 +175,36 @@ func runTune(args []string, stdout, stderr io.Writer) int {
 	return 0
 }
 
-// runTrace runs one minimizer from its start and prints its iterations;
-// the package itself is not written to.
-func runTrace(args []string, stdout, stderr io.Writer) int {
-	flags := pflag.NewFlagSet("nadir trace", pflag.ContinueOnError)
+// choosePlan parses SPEC [--name NAME] and the verb's own flags, and
+// resolves the minimizer; on failure it reports and returns the exit code.
+func choosePlan(verb string, args []string, stderr io.Writer, more func(*pflag.FlagSet)) (*gen.Plan, int) {
+	flags := pflag.NewFlagSet("nadir "+verb, pflag.ContinueOnError)
 	flags.SetOutput(io.Discard)
-	name := flags.String("name", "", "minimizer to trace (needed when the spec has several)")
-	csvPath := flags.String("csv", "", "also write the rows to this CSV file")
-	svgPath := flags.String("svg", "", "also draw the convergence chart to this SVG file")
+	name := flags.String("name", "", "minimizer to use (needed when the spec has several)")
+	if more != nil {
+		more(flags)
+	}
 	if err := flags.Parse(args); err != nil || flags.NArg() != 1 {
-		fmt.Fprintf(stderr, "nadir trace: name one spec\n%s", usage)
-		return 2
+		fmt.Fprintf(stderr, "nadir %s: name one spec\n%s", verb, usage)
+		return nil, 2
 	}
 	plan, err := gen.SelectPlan(flags.Arg(0), *name)
 	if err != nil {
-		return report(stderr, err)
+		return nil, report(stderr, err)
+	}
+	return plan, 0
+}
+
+// runTrace runs one minimizer from its start and prints its iterations;
+// the package itself is not written to.
+func runTrace(args []string, stdout, stderr io.Writer) int {
+	var csvPath, svgPath *string
+	plan, code := choosePlan("trace", args, stderr, func(flags *pflag.FlagSet) {
+		csvPath = flags.String("csv", "", "also write the rows to this CSV file")
+		svgPath = flags.String("svg", "", "also draw the convergence chart to this SVG file")
+	})
+	if plan == nil {
+		return code
 	}
 	res, err := gen.Trace(plan)
 	if err != nil {

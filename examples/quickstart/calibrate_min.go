@@ -403,19 +403,10 @@ func calibrateTinyStep(x, d *[2]float64, tol float64) float64 {
 	return tiny
 }
 
-// calibrateLineSearch backtracks from the trial step first until the Armijo
-// sufficient-decrease condition holds:
-//
-//	f(x + t·d) ≤ f(x) + c1·t·∇f(x)ᵀd,  c1 = calibrateStepDecrease
-//
-// (Armijo 1966; Nocedal & Wright 2006, eq. 3.4 and Algorithm 3.1). Each
-// failure takes t ← next trial, by fixed shrink or by interpolation.
-//
-// References:
-//   - L. Armijo, Minimization of functions having Lipschitz continuous
-//     first partial derivatives, Pacific J. Math. 16(1):1–3, 1966.
-//   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
-//     Springer, 2006, §3.1 and §3.5.
+// calibrateLineSearch backtracks from the trial step first until the rule's
+// acceptance test holds, taking t ← next trial after each
+// failure, by fixed shrink or by interpolation (Nocedal & Wright 2006,
+// Algorithm 3.1 and §3.5). A non-finite value fails like any trial.
 func calibrateLineSearch(x *[2]float64, fx float64, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64) calibrateLineResult {
 	t := first
 	var previous, fPrevious float64
@@ -429,7 +420,7 @@ func calibrateLineSearch(x *[2]float64, fx float64, d *[2]float64, slope, first,
 		}
 		calibrateMoveTo(xt, x, t, d)
 		ft := CalibrationError(xt)
-		if calibrateFinite(ft) && ft <= fx+calibrateStepDecrease*t*slope { // N&W eq. 3.4
+		if calibrateFinite(ft) && calibrateAcceptable(fx, ft, t, slope) {
 			return calibrateLineResult{step: t, value: ft, calls: trial + 1, end: calibrateSearchAccepted}
 		}
 		flat = flat || calibrateFinite(ft) && calibrateFlatTrial(fx, ft, t, slope)
@@ -474,6 +465,21 @@ func calibrateMoveTo(out, x *[2]float64, t float64, d *[2]float64) {
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
+}
+
+// calibrateAcceptable is the Armijo sufficient-decrease condition
+//
+//	f(x + t·d) ≤ f(x) + c1·t·∇f(x)ᵀd,  c1 = calibrateStepDecrease
+//
+// (Armijo 1966; Nocedal & Wright 2006, eq. 3.4 and Algorithm 3.1).
+//
+// References:
+//   - L. Armijo, Minimization of functions having Lipschitz continuous
+//     first partial derivatives, Pacific J. Math. 16(1):1–3, 1966.
+//   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
+//     Springer, 2006, §3.1 and §3.5.
+func calibrateAcceptable(fx, ft, t, slope float64) bool {
+	return ft <= fx+calibrateStepDecrease*t*slope // N&W eq. 3.4
 }
 
 // calibrateFlatTrial reports whether a failed trial t found f flat along d, to

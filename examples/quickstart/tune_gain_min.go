@@ -431,19 +431,10 @@ func tuneGainTinyStep(x, d *[1]float64, tol float64) float64 {
 	return tiny
 }
 
-// tuneGainLineSearch backtracks from the trial step first until the Armijo
-// sufficient-decrease condition holds:
-//
-//	f(x + t·d) ≤ f(x) + c1·t·∇f(x)ᵀd,  c1 = tuneGainStepDecrease
-//
-// (Armijo 1966; Nocedal & Wright 2006, eq. 3.4 and Algorithm 3.1). Each
-// failure takes t ← next trial, by fixed shrink or by interpolation.
-//
-// References:
-//   - L. Armijo, Minimization of functions having Lipschitz continuous
-//     first partial derivatives, Pacific J. Math. 16(1):1–3, 1966.
-//   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
-//     Springer, 2006, §3.1 and §3.5.
+// tuneGainLineSearch backtracks from the trial step first until the rule's
+// acceptance test holds, taking t ← next trial after each
+// failure, by fixed shrink or by interpolation (Nocedal & Wright 2006,
+// Algorithm 3.1 and §3.5). A non-finite value fails like any trial.
 func tuneGainLineSearch(x *[1]float64, fx float64, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64) tuneGainLineResult {
 	t := first
 	var previous, fPrevious float64
@@ -457,7 +448,7 @@ func tuneGainLineSearch(x *[1]float64, fx float64, d *[1]float64, slope, first, 
 		}
 		tuneGainMoveTo(xt, x, t, d)
 		ft := GainCost(xt[0])
-		if tuneGainFinite(ft) && ft <= fx+tuneGainStepDecrease*t*slope { // N&W eq. 3.4
+		if tuneGainFinite(ft) && tuneGainAcceptable(fx, ft, t, slope) {
 			return tuneGainLineResult{step: t, value: ft, calls: trial + 1, end: tuneGainSearchAccepted}
 		}
 		flat = flat || tuneGainFinite(ft) && tuneGainFlatTrial(fx, ft, t, slope)
@@ -502,6 +493,21 @@ func tuneGainMoveTo(out, x *[1]float64, t float64, d *[1]float64) {
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
+}
+
+// tuneGainAcceptable is the Armijo sufficient-decrease condition
+//
+//	f(x + t·d) ≤ f(x) + c1·t·∇f(x)ᵀd,  c1 = tuneGainStepDecrease
+//
+// (Armijo 1966; Nocedal & Wright 2006, eq. 3.4 and Algorithm 3.1).
+//
+// References:
+//   - L. Armijo, Minimization of functions having Lipschitz continuous
+//     first partial derivatives, Pacific J. Math. 16(1):1–3, 1966.
+//   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
+//     Springer, 2006, §3.1 and §3.5.
+func tuneGainAcceptable(fx, ft, t, slope float64) bool {
+	return ft <= fx+tuneGainStepDecrease*t*slope // N&W eq. 3.4
 }
 
 // tuneGainFlatTrial reports whether a failed trial t found f flat along d, to

@@ -431,19 +431,10 @@ func minParabolaTinyStep(x, d *[1]float64, tol float64) float64 {
 	return tiny
 }
 
-// minParabolaLineSearch backtracks from the trial step first until the Armijo
-// sufficient-decrease condition holds:
-//
-//	f(x + t·d) ≤ f(x) + c1·t·∇f(x)ᵀd,  c1 = minParabolaStepDecrease
-//
-// (Armijo 1966; Nocedal & Wright 2006, eq. 3.4 and Algorithm 3.1). Each
-// failure takes t ← next trial, by fixed shrink or by interpolation.
-//
-// References:
-//   - L. Armijo, Minimization of functions having Lipschitz continuous
-//     first partial derivatives, Pacific J. Math. 16(1):1–3, 1966.
-//   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
-//     Springer, 2006, §3.1 and §3.5.
+// minParabolaLineSearch backtracks from the trial step first until the rule's
+// acceptance test holds, taking t ← next trial after each
+// failure, by fixed shrink or by interpolation (Nocedal & Wright 2006,
+// Algorithm 3.1 and §3.5). A non-finite value fails like any trial.
 func minParabolaLineSearch(x *[1]float64, fx float64, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64) minParabolaLineResult {
 	t := first
 	var previous, fPrevious float64
@@ -457,7 +448,7 @@ func minParabolaLineSearch(x *[1]float64, fx float64, d *[1]float64, slope, firs
 		}
 		minParabolaMoveTo(xt, x, t, d)
 		ft := Parabola(xt[0])
-		if minParabolaFinite(ft) && ft <= fx+minParabolaStepDecrease*t*slope { // N&W eq. 3.4
+		if minParabolaFinite(ft) && minParabolaAcceptable(fx, ft, t, slope) {
 			return minParabolaLineResult{step: t, value: ft, calls: trial + 1, end: minParabolaSearchAccepted}
 		}
 		flat = flat || minParabolaFinite(ft) && minParabolaFlatTrial(fx, ft, t, slope)
@@ -502,6 +493,21 @@ func minParabolaMoveTo(out, x *[1]float64, t float64, d *[1]float64) {
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
+}
+
+// minParabolaAcceptable is the Armijo sufficient-decrease condition
+//
+//	f(x + t·d) ≤ f(x) + c1·t·∇f(x)ᵀd,  c1 = minParabolaStepDecrease
+//
+// (Armijo 1966; Nocedal & Wright 2006, eq. 3.4 and Algorithm 3.1).
+//
+// References:
+//   - L. Armijo, Minimization of functions having Lipschitz continuous
+//     first partial derivatives, Pacific J. Math. 16(1):1–3, 1966.
+//   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
+//     Springer, 2006, §3.1 and §3.5.
+func minParabolaAcceptable(fx, ft, t, slope float64) bool {
+	return ft <= fx+minParabolaStepDecrease*t*slope // N&W eq. 3.4
 }
 
 // minParabolaFlatTrial reports whether a failed trial t found f flat along d, to

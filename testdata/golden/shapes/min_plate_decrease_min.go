@@ -387,10 +387,10 @@ func minPlateDecreaseTinyStep(x, d *[2]float32, tol float32) float32 {
 	return tiny
 }
 
-// minPlateDecreaseLineSearch backtracks from the trial step first until f decreases at
-// all, f(x + t·d) < f(x), taking t ← next trial each time. Simple decrease
-// does not guarantee convergence (Nocedal & Wright 2006, §3.1, the example
-// around Fig. 3.2), which is why armijoSearch exists.
+// minPlateDecreaseLineSearch backtracks from the trial step first until the rule's
+// acceptance test holds, taking t ← next trial after each
+// failure, by fixed shrink or by interpolation (Nocedal & Wright 2006,
+// Algorithm 3.1 and §3.5). A non-finite value fails like any trial.
 func minPlateDecreaseLineSearch(x *[2]float32, fx float32, d *[2]float32, slope, first, tiny float32, budget int, xt, gt *[2]float32) minPlateDecreaseLineResult {
 	t := first
 	var previous, fPrevious float32
@@ -404,7 +404,7 @@ func minPlateDecreaseLineSearch(x *[2]float32, fx float32, d *[2]float32, slope,
 		}
 		minPlateDecreaseMoveTo(xt, x, t, d)
 		ft := Plate(xt)
-		if minPlateDecreaseFinite(ft) && ft < fx {
+		if minPlateDecreaseFinite(ft) && minPlateDecreaseAcceptable(fx, ft, t, slope) {
 			return minPlateDecreaseLineResult{step: t, value: ft, calls: trial + 1, end: minPlateDecreaseSearchAccepted}
 		}
 		flat = flat || minPlateDecreaseFinite(ft) && minPlateDecreaseFlatTrial(fx, ft, t, slope)
@@ -449,6 +449,13 @@ func minPlateDecreaseMoveTo(out, x *[2]float32, t float32, d *[2]float32) {
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
+}
+
+// minPlateDecreaseAcceptable accepts any decrease, f(x + t·d) < f(x). Simple decrease
+// does not guarantee convergence (Nocedal & Wright 2006, §3.1, the example
+// around Fig. 3.2), which is why armijoDecrease exists.
+func minPlateDecreaseAcceptable(fx, ft, t, slope float32) bool {
+	return ft < fx
 }
 
 // minPlateDecreaseFlatTrial reports whether a failed trial t found f flat along d, to
