@@ -1,0 +1,88 @@
+package gen
+
+import (
+	"bytes"
+	"go/ast"
+	"go/parser"
+	"go/token"
+	"path/filepath"
+	"strings"
+	"testing"
+)
+
+// Every declaration a generated file makes carries the minimizer's name
+// (exported API) or its lowerCamel prefix (kernels, tunables), and no
+// template stand-in or selector survives the rewriting: the output names
+// nothing that only the templates declare.
+func TestSpecializedNamesAreHygienic(t *testing.T) {
+	plans, err := Plans([]string{filepath.Join("..", "testdata", "golden", "shapes", "shapes.toml")})
+	if err != nil {
+		t.Fatal(err)
+	}
+	ks, err := loadKernels()
+	if err != nil {
+		t.Fatal(err)
+	}
+	templateNames := map[string]bool{}
+	for name := range ks.units {
+		templateNames[name] = true
+	}
+	for _, p := range plans {
+		var buf bytes.Buffer
+		if err := EmitMinimizer(&buf, p); err != nil {
+			t.Fatal(err)
+		}
+		f, err := parser.ParseFile(token.NewFileSet(), "", buf.Bytes(), parser.ParseComments)
+		if err != nil {
+			t.Fatal(err)
+		}
+		for _, name := range topLevelNames(buf.Bytes()) {
+			if !strings.HasPrefix(name, p.M.Name) && !strings.HasPrefix(name, p.Prefix) {
+				t.Errorf("%s: top-level %s lacks the minimizer's name or prefix", p.M.Name, name)
+			}
+		}
+		ast.Inspect(f, func(n ast.Node) bool {
+			if id, ok := n.(*ast.Ident); ok && templateNames[id.Name] && id.Name != "minimize" {
+				// Field and method names may repeat template words; package
+				// names may not.
+				if f.Scope.Lookup(id.Name) != nil || id.Obj != nil && id.Obj.Kind != ast.Var {
+					t.Errorf("%s: template name %s survives at %d", p.M.Name, id.Name, id.Pos())
+				}
+			}
+			return true
+		})
+		// The observe hook is deleted, the stand-in selectors never copied.
+		for _, word := range []string{"observe(", "stepRule", "directionKind", "derivativeSource", "backtrackKind", "receiver"} {
+			if bytes.Contains(buf.Bytes(), []byte(word)) {
+				t.Errorf("%s: generated code mentions %q", p.M.Name, word)
+			}
+		}
+	}
+}
+
+// Comments of kept template declarations reach the output renamed, the
+// trailing ones included: a comment whose text grows with the renaming
+// once fell outside its declaration and was dropped.
+func TestSpecializedCommentsSurvive(t *testing.T) {
+	plans, err := Plans([]string{filepath.Join("..", "testdata", "golden", "shapes", "shapes.toml")})
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := map[string][]string{
+		"MinValley":        {"count  int // pairs held, at most minValleyLbfgsMemory", "// N&W eq. 7.20", "// N&W eq. 3.6b"},
+		"MinParabola":      {"// N&W eq. 3.4", "// N&W eq. 6.17", "// N&W eq. 8.7, with the representable 2h"},
+		"MinPlateDecrease": {"// N&W eq. 3.58"},
+		"MinBowl":          {"// N&W eq. 5.45 (PR+)", "// N&W eq. 3.7b"},
+	}
+	for _, p := range plans {
+		var buf bytes.Buffer
+		if err := EmitMinimizer(&buf, p); err != nil {
+			t.Fatal(err)
+		}
+		for _, w := range want[p.M.Name] {
+			if !bytes.Contains(buf.Bytes(), []byte(w)) {
+				t.Errorf("%s: the comment %q is lost", p.M.Name, w)
+			}
+		}
+	}
+}
