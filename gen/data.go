@@ -19,7 +19,7 @@ var statuses = []statusInfo{
 	{"statusGradientSmall", "GradientSmall", "gradient small", true,
 		"the largest gradient component fell to the gradient limit: converged"},
 	{"statusStepTiny", "StepTiny", "step tiny", true,
-		"every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f while f was flat to the accuracy of the gradient (always so with finite differences): converged"},
+		"every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f: converged"},
 	{"statusOutOfIterations", "OutOfIterations", "out of iterations", false,
 		"the iteration limit came first"},
 	{"statusOutOfEvaluations", "OutOfEvaluations", "out of evaluations", false,
@@ -31,7 +31,7 @@ var statuses = []statusInfo{
 	{"statusNonFiniteGradient", "NonFiniteGradient", "non-finite gradient", false,
 		"a gradient component became NaN or ±Inf"},
 	{"statusNoDecrease", "NoDecrease", "no decrease", false,
-		"no step longer than the step limit decreased f, and f rose about as fast as the analytic gradient said it would fall: the gradient is probably wrong (see the generated gradient test)"},
+		"no step longer than the step limit decreased f, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test)"},
 }
 
 // tunable is one constant the kernels read, emitted from the plan.

@@ -24,10 +24,10 @@ func fixedStep(recv *receiver, x *vec, fx elem, d *vec, slope, first, tiny elem,
 func backtrackSearch(recv *receiver, x *vec, fx elem, d *vec, slope, first, tiny elem, budget int, xt, gt *vec) lineResult {
 	t := first
 	var previous, fPrevious elem
-	flat := false
+	var trend riseTrend
 	for trial := 0; trial < stepTrials; trial++ {
 		if trial > 0 && t <= tiny {
-			return lineResult{calls: trial, flat: flat, end: tinyOrExhausted(finite(fPrevious))}
+			return lineResult{calls: trial, rising: trend.contradicts(), end: tinyOrExhausted(finite(fPrevious))}
 		}
 		if trial >= budget {
 			return lineResult{calls: trial, end: searchOutOfBudget}
@@ -37,7 +37,7 @@ func backtrackSearch(recv *receiver, x *vec, fx elem, d *vec, slope, first, tiny
 		if finite(ft) && acceptable(fx, ft, t, slope) {
 			return lineResult{step: t, value: ft, calls: trial + 1, end: searchAccepted}
 		}
-		flat = flat || finite(ft) && flatTrial(fx, ft, t, slope)
+		trend.add(t, ft-fx)
 		t, previous, fPrevious = backtrackTrial(fx, slope, t, ft, previous, fPrevious), t, ft
 	}
 	return lineResult{calls: stepTrials, end: searchExhausted}

@@ -16,29 +16,41 @@ type lineResult struct {
 	value    elem      // f(x + t·d)
 	calls    int       // objective calls spent, finite differences included
 	gradient bool      // whether gt holds ∇f(x + t·d) already
-	flat     bool      // whether a failed trial found f flat along d (see flatTrial)
+	rising   bool      // whether the failed trials rose in proportion to t (see riseTrend)
 	end      searchEnd // how the search ended
 }
 
-// flatTrial reports whether a failed trial t found f flat along d, to
-// the accuracy the gradient and f allow, so that no decrease can be
-// expected from any step:
-//
-//   - the change f(x + t·d) − f(x) = ft − fx is at most half the
-//     first-order prediction t·∇fᵀd in size: near a minimizer whose
-//     gradient is known only roughly (differences), the true slope along
-//     d is below that accuracy. A wrong gradient makes f rise about as
-//     fast as it predicts a fall, and never passes. This is the ratio of
-//     actual to predicted reduction of trust-region methods (Nocedal &
-//     Wright 2006, eq. 4.4);
-//   - or the prediction itself, |t·∇fᵀd|, is below the rounding unit of
-//     f, u·|f(x)|: no change that small can show in floating point, so x
-//     is a minimizer to working precision (Dennis & Schnabel 1983, §7.2,
-//     relate the gradient test to the precision of f; recalled from
-//     memory).
-func flatTrial(fx, ft, t, slope elem) bool {
-	predicted := abs(t * slope)
-	return abs(ft-fx) <= 0.5*predicted || predicted <= unitRoundoff*abs(fx)
+// riseTrend watches the failed trials of one line search, shortest last,
+// for the mark of a wrong gradient: f rising in proportion to the step,
+// f(x + t·d) − f(x) ≈ c·t with c > 0, so that the gradient's predicted
+// fall is contradicted at every scale. At a minimizer f instead rises
+// like t² (curvature) or changes by rounding noise that does not follow
+// t, and a search that finds no decrease there has converged. Three
+// consecutive pairs of trials whose rises agree with proportionality
+// within a factor of √2 make the trend; a trial that breaks it starts
+// over. This is the linear model's test at the heart of gradient checking
+// (Nocedal & Wright 2006, §8.1: a correct gradient makes the error of
+// f(x) + t·∇fᵀd shrink like t²).
+type riseTrend struct {
+	step, rise elem // the previous failed trial
+	linear     int  // consecutive proportional rises so far
+}
+
+// add records a failed trial t whose value changed f by rise (NaN or ±Inf
+// when the value was not finite).
+func (r *riseTrend) add(t, rise elem) {
+	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
+	if rise > 0 && r.rise > 0 && ratio >= 0.7071 && ratio <= 1.4143 {
+		r.linear++
+	} else {
+		r.linear = 0
+	}
+	r.step, r.rise = t, rise
+}
+
+// contradicts reports whether the trials showed a proportional rise.
+func (r *riseTrend) contradicts() bool {
+	return r.linear >= 3
 }
 
 // lineSearch looks along d from x, where f(x) = fx and the slope
@@ -46,11 +58,11 @@ func flatTrial(fx, ft, t, slope elem) bool {
 // budget objective calls. Steps t ≤ tiny are below the step limit: after
 // at least one failed trial, a search that would have to try such a step
 // ends with searchTiny instead, since every step longer than the step
-// limit failed to decrease f. The kernel calls that convergence only when
-// some failed trial found f flat (see flatTrial) or the gradient is a
-// difference; otherwise the gradient is likely wrong (Dennis & Schnabel
-// 1983, §7.2, keep this case apart from the step test, recalled from
-// memory). On acceptance xt
+// limit failed to decrease f. The kernel calls that convergence unless
+// the failed trials rose in proportion to the step (see riseTrend) with an
+// analytic gradient, which is then likely wrong (Dennis & Schnabel 1983,
+// §7.2, keep this case apart from the step test, recalled from memory).
+// On acceptance xt
 // holds x + t·d (and gt its gradient when the result says so). It stands
 // in for the rule the spec chose; gen keeps only that one under this name.
 func lineSearch(recv *receiver, x *vec, fx elem, d *vec, slope, first, tiny elem, budget int, xt, gt *vec) lineResult {

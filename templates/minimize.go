@@ -17,9 +17,8 @@ type outcome struct {
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
 //  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged when
-//     f was flat along d or the gradient is a difference, else no
-//     decrease);
+//     steps shorter than the step limit are left to try (converged,
+//     unless f contradicts an analytic gradient: no decrease);
 //  5. move, refresh the gradient, let the direction learn from the step;
 //  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
 //
@@ -92,14 +91,15 @@ func minimize(recv *receiver, x0 vec, lim limits) outcome {
 			out.status = statusNoAcceptableStep
 			return out
 		case searchTiny:
-			// Converged to the step limit when f was flat along d to the
-			// accuracy available (see flatTrial), and always with finite
-			// differences: their error, not the true slope, then steers d,
-			// so x is stationary to the accuracy of the differences. With
-			// an analytic gradient that f contradicts, it is not.
-			out.status = statusNoDecrease
-			if found.flat || derivativeCost > 0 {
-				out.status = statusStepTiny
+			// Converged to the step limit: no step the step test would
+			// reject decreases f. Not so when an analytic gradient is
+			// contradicted by f rising in proportion to the step (see
+			// riseTrend); with differences such a rise means their error,
+			// not the true slope, steers d, and x is stationary to the
+			// accuracy of the differences.
+			out.status = statusStepTiny
+			if found.rising && derivativeCost == 0 {
+				out.status = statusNoDecrease
 			}
 			return out
 		}

@@ -1,6 +1,7 @@
 package templates
 
 import (
+	"fmt"
 	"math"
 	"testing"
 )
@@ -246,26 +247,101 @@ func TestExactMinimumWithNoisyGradientStopsOnStep(t *testing.T) {
 	}
 }
 
-// A wrong analytic gradient (the sign of ∂f/∂x₁ flipped on f = x₁² + x₂²)
-// makes every step "downhill" go uphill. No rule may claim convergence:
-// f rises as fast as the gradient says it falls, so the line search ends
-// with no decrease or no acceptable step, never step tiny.
+// A wrong analytic gradient makes f rise where it predicts a fall. No
+// rule may then claim convergence, whatever the size of the error: a sign
+// flipped in one component, the gradient scaled by −3, from starts where
+// the true rise is a small or a large part of the predicted fall.
 func TestWrongGradientNeverConverges(t *testing.T) {
+	square := func(x *vec) elem { return x[0]*x[0] + x[1]*x[1] }
+	wrongs := []struct {
+		name     string
+		gradient func(x, g *vec)
+		starts   []vec
+	}{
+		{"one sign flipped", func(x, g *vec) { g[0], g[1] = -2*x[0], 2*x[1] }, []vec{{1, 0.1}, {1, 1.5}, {1, 0.9}}},
+		{"−3 times the gradient", func(x, g *vec) { g[0], g[1] = -6*x[0], -6*x[1] }, []vec{{1, 1}, {-2, 0.5}}},
+	}
 	for _, p := range everyPolicy() {
 		if p.source != sourceAnalytic {
 			continue
 		}
+		for _, w := range wrongs {
+			for _, start := range w.starts {
+				t.Run(fmt.Sprintf("%s/%s/%v", p, w.name, start), func(t *testing.T) {
+					p.use(t)
+					recv := &receiver{valueFunc: square, gradientFunc: w.gradient}
+					out := minimize(recv, start, defaultLimits())
+					if out.status == statusStepTiny || out.status == statusGradientSmall {
+						t.Fatalf("status %d (converged) at x = %v after %d iterations, from a wrong gradient", out.status, out.x, out.iterations)
+					}
+				})
+			}
+		}
+	}
+}
+
+// At a minimizer of an objective computed with cancellation (a sum of 64
+// squared residuals minus its own minimum, so f ≈ 0 carries rounding noise
+// far above u·|f|), an exact gradient cannot resolve any decrease. Every
+// rule must then stop converged, from every start: the noise does not rise
+// in proportion to the step the way a wrong gradient's error does.
+func TestNoisyMinimumConverges(t *testing.T) {
+	var a, b [64]elem
+	for i := range a {
+		a[i], b[i] = elem(1+i%7), elem(3*(i%5)-1)
+	}
+	// Least squares in two unknowns, f = Σ (a_i x₁ + x₂ − b_i)², with its
+	// minimum value computed by the normal equations, then subtracted.
+	var saa, sa, sb, sab, sbb elem
+	for i := range a {
+		saa, sa, sb, sab, sbb = saa+a[i]*a[i], sa+a[i], sb+b[i], sab+a[i]*b[i], sbb+b[i]*b[i]
+	}
+	n := elem(len(a))
+	det := saa*n - sa*sa
+	x1, x2 := (sab*n-sa*sb)/det, (saa*sb-sa*sab)/det
+	var base elem
+	for i := range a {
+		r := a[i]*x1 + x2 - b[i]
+		base += r * r
+	}
+	recv := &receiver{
+		valueFunc: func(x *vec) elem {
+			var s elem
+			for i := range a {
+				r := a[i]*x[0] + x[1] - b[i]
+				s += r * r
+			}
+			return s - base
+		},
+		gradientFunc: func(x, g *vec) {
+			g[0], g[1] = 0, 0
+			for i := range a {
+				r := a[i]*x[0] + x[1] - b[i]
+				g[0] += 2 * r * a[i]
+				g[1] += 2 * r
+			}
+		},
+	}
+	for _, p := range everyPolicy() {
+		if p.source != sourceAnalytic || p.kind == kindCG && p.rule < ruleWolfe {
+			continue // CG needs a Wolfe rule, see TestEveryPolicyConverges
+		}
 		t.Run(p.String(), func(t *testing.T) {
 			p.use(t)
-			recv := &receiver{
-				valueFunc:    func(x *vec) elem { return x[0]*x[0] + x[1]*x[1] },
-				gradientFunc: func(x, g *vec) { g[0], g[1] = -2*x[0], 2*x[1] },
-			}
 			lim := defaultLimits()
-			lim.Step = 1e-6
-			out := minimize(recv, vec{1, 0.1}, lim)
-			if out.status == statusStepTiny || out.status == statusGradientSmall {
-				t.Fatalf("status %d (converged) at x = %v after %d iterations, from a wrong gradient", out.status, out.x, out.iterations)
+			lim.Gradient = 1e-14 // below what the noise allows: the run must end on the step limit
+			for k := 0; k < 12; k++ {
+				start := vec{x1 + elem(k%4) - 1.5, x2 + elem(k/4) - 1}
+				out := minimize(recv, start, lim)
+				if out.status != statusStepTiny && out.status != statusGradientSmall {
+					t.Errorf("from %v: status %d after %d iterations, f = %g", start, out.status, out.iterations, out.f)
+				}
+				// Rounding of the 64-term sum is about 64·u·base (common
+				// practice, Higham's bound for summation recalled from
+				// memory); f may not end more than 1000 times above it.
+				if noise := 64 * 0x1p-53 * max(base, 1); !(out.f <= 1000*noise) {
+					t.Errorf("from %v: f = %g above the noise level %g, x = %v", start, out.f, noise, out.x)
+				}
 			}
 		})
 	}

@@ -34,7 +34,7 @@ func wolfeSearch(recv *receiver, x *vec, fx elem, d *vec, slope, first, tiny ele
 	var high linePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient vec                                       // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	flat := false // whether a trial failing sufficient decrease found f flat
+	var trend riseTrend // of the trials failing sufficient decrease
 	t := first
 	calls := 0
 	for trial := 0; trial < stepTrials; trial++ {
@@ -43,7 +43,7 @@ func wolfeSearch(recv *receiver, x *vec, fx elem, d *vec, slope, first, tiny ele
 			// decreased f; else no step decreased f, unless f was not
 			// finite there.
 			if low.step == 0 {
-				return lineResult{calls: calls, flat: flat, end: tinyOrExhausted(finite(high.value))}
+				return lineResult{calls: calls, rising: trend.contradicts(), end: tinyOrExhausted(finite(high.value))}
 			}
 			return acceptLow(x, d, &low, &lowGradient, calls, xt, gt)
 		}
@@ -56,7 +56,7 @@ func wolfeSearch(recv *receiver, x *vec, fx elem, d *vec, slope, first, tiny ele
 		previous := low
 		if !finite(current.value) || current.value > fx+stepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			flat = flat || finite(current.value) && flatTrial(fx, current.value, t, slope)
+			trend.add(t, current.value-fx)
 		} else {
 			if calls+derivativeCost > budget {
 				return lineResult{calls: calls, end: searchOutOfBudget}

@@ -10,7 +10,7 @@ type ConcaveRightWolfeMTAlphaEm3Status uint8
 const (
 	// ConcaveRightWolfeMTAlphaEm3GradientSmall: the largest gradient component fell to the gradient limit: converged.
 	ConcaveRightWolfeMTAlphaEm3GradientSmall ConcaveRightWolfeMTAlphaEm3Status = iota + 1
-	// ConcaveRightWolfeMTAlphaEm3StepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f while f was flat to the accuracy of the gradient (always so with finite differences): converged.
+	// ConcaveRightWolfeMTAlphaEm3StepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f: converged.
 	ConcaveRightWolfeMTAlphaEm3StepTiny
 	// ConcaveRightWolfeMTAlphaEm3OutOfIterations: the iteration limit came first.
 	ConcaveRightWolfeMTAlphaEm3OutOfIterations
@@ -22,7 +22,7 @@ const (
 	ConcaveRightWolfeMTAlphaEm3NonFiniteStart
 	// ConcaveRightWolfeMTAlphaEm3NonFiniteGradient: a gradient component became NaN or ±Inf.
 	ConcaveRightWolfeMTAlphaEm3NonFiniteGradient
-	// ConcaveRightWolfeMTAlphaEm3NoDecrease: no step longer than the step limit decreased f, and f rose about as fast as the analytic gradient said it would fall: the gradient is probably wrong (see the generated gradient test).
+	// ConcaveRightWolfeMTAlphaEm3NoDecrease: no step longer than the step limit decreased f, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test).
 	ConcaveRightWolfeMTAlphaEm3NoDecrease
 )
 
@@ -110,12 +110,11 @@ func ConcaveRightWolfeMTAlphaEm3WithLimits(x0 float64, limits ConcaveRightWolfeM
 
 // Tunables of ConcaveRightWolfeMTAlphaEm3 from linesearch.toml; the kernels below read them.
 const (
-	concaveRightWolfeMTAlphaEm3StepInitial    = 0.002                  // step.initial
-	concaveRightWolfeMTAlphaEm3StepDecrease   = 0.001                  // step.decrease (c1)
-	concaveRightWolfeMTAlphaEm3StepCurvature  = 0.1                    // step.curvature (c2)
-	concaveRightWolfeMTAlphaEm3StepTrials     = 40                     // step.trials
-	concaveRightWolfeMTAlphaEm3DerivativeCost = 0                      // objective calls per gradient
-	concaveRightWolfeMTAlphaEm3UnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
+	concaveRightWolfeMTAlphaEm3StepInitial    = 0.002 // step.initial
+	concaveRightWolfeMTAlphaEm3StepDecrease   = 0.001 // step.decrease (c1)
+	concaveRightWolfeMTAlphaEm3StepCurvature  = 0.1   // step.curvature (c2)
+	concaveRightWolfeMTAlphaEm3StepTrials     = 40    // step.trials
+	concaveRightWolfeMTAlphaEm3DerivativeCost = 0     // objective calls per gradient
 )
 
 // concaveRightWolfeMTAlphaEm3Minimize runs the descent loop from x0 within lim:
@@ -125,9 +124,8 @@ const (
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
 //  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged when
-//     f was flat along d or the gradient is a difference, else no
-//     decrease);
+//     steps shorter than the step limit are left to try (converged,
+//     unless f contradicts an analytic gradient: no decrease);
 //  5. move, refresh the gradient, let the direction learn from the step;
 //  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
 //
@@ -199,14 +197,15 @@ func concaveRightWolfeMTAlphaEm3Minimize(x0 [1]float64, lim ConcaveRightWolfeMTA
 			out.status = ConcaveRightWolfeMTAlphaEm3NoAcceptableStep
 			return out
 		case concaveRightWolfeMTAlphaEm3SearchTiny:
-			// Converged to the step limit when f was flat along d to the
-			// accuracy available (see concaveRightWolfeMTAlphaEm3FlatTrial), and always with finite
-			// differences: their error, not the true slope, then steers d,
-			// so x is stationary to the accuracy of the differences. With
-			// an analytic gradient that f contradicts, it is not.
-			out.status = ConcaveRightWolfeMTAlphaEm3NoDecrease
-			if found.flat || concaveRightWolfeMTAlphaEm3DerivativeCost > 0 {
-				out.status = ConcaveRightWolfeMTAlphaEm3StepTiny
+			// Converged to the step limit: no step the step test would
+			// reject decreases f. Not so when an analytic gradient is
+			// contradicted by f rising in proportion to the step (see
+			// concaveRightWolfeMTAlphaEm3RiseTrend); with differences such a rise means their error,
+			// not the true slope, steers d, and x is stationary to the
+			// accuracy of the differences.
+			out.status = ConcaveRightWolfeMTAlphaEm3StepTiny
+			if found.rising && concaveRightWolfeMTAlphaEm3DerivativeCost == 0 {
+				out.status = ConcaveRightWolfeMTAlphaEm3NoDecrease
 			}
 			return out
 		}
@@ -387,7 +386,7 @@ func concaveRightWolfeMTAlphaEm3LineSearch(x *[1]float64, fx float64, d *[1]floa
 	var high concaveRightWolfeMTAlphaEm3LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                           // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	flat := false // whether a trial failing sufficient decrease found f flat
+	var trend concaveRightWolfeMTAlphaEm3RiseTrend // of the trials failing sufficient decrease
 	t := first
 	calls := 0
 	for trial := 0; trial < concaveRightWolfeMTAlphaEm3StepTrials; trial++ {
@@ -396,7 +395,7 @@ func concaveRightWolfeMTAlphaEm3LineSearch(x *[1]float64, fx float64, d *[1]floa
 			// decreased f; else no step decreased f, unless f was not
 			// finite there.
 			if low.step == 0 {
-				return concaveRightWolfeMTAlphaEm3LineResult{calls: calls, flat: flat, end: concaveRightWolfeMTAlphaEm3TinyOrExhausted(concaveRightWolfeMTAlphaEm3Finite(high.value))}
+				return concaveRightWolfeMTAlphaEm3LineResult{calls: calls, rising: trend.contradicts(), end: concaveRightWolfeMTAlphaEm3TinyOrExhausted(concaveRightWolfeMTAlphaEm3Finite(high.value))}
 			}
 			return concaveRightWolfeMTAlphaEm3AcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
 		}
@@ -409,7 +408,7 @@ func concaveRightWolfeMTAlphaEm3LineSearch(x *[1]float64, fx float64, d *[1]floa
 		previous := low
 		if !concaveRightWolfeMTAlphaEm3Finite(current.value) || current.value > fx+concaveRightWolfeMTAlphaEm3StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			flat = flat || concaveRightWolfeMTAlphaEm3Finite(current.value) && concaveRightWolfeMTAlphaEm3FlatTrial(fx, current.value, t, slope)
+			trend.add(t, current.value-fx)
 		} else {
 			if calls+concaveRightWolfeMTAlphaEm3DerivativeCost > budget {
 				return concaveRightWolfeMTAlphaEm3LineResult{calls: calls, end: concaveRightWolfeMTAlphaEm3SearchOutOfBudget}
@@ -448,7 +447,7 @@ type concaveRightWolfeMTAlphaEm3LineResult struct {
 	value    float64                              // f(x + t·d)
 	calls    int                                  // objective calls spent, finite differences included
 	gradient bool                                 // whether gt holds ∇f(x + t·d) already
-	flat     bool                                 // whether a failed trial found f flat along d (see concaveRightWolfeMTAlphaEm3FlatTrial)
+	rising   bool                                 // whether the failed trials rose in proportion to t (see concaveRightWolfeMTAlphaEm3RiseTrend)
 	end      concaveRightWolfeMTAlphaEm3SearchEnd // how the search ended
 }
 
@@ -460,6 +459,39 @@ type concaveRightWolfeMTAlphaEm3SearchEnd uint8
 type concaveRightWolfeMTAlphaEm3LinePoint struct {
 	step, value, slope float64
 	hasSlope           bool
+}
+
+// concaveRightWolfeMTAlphaEm3RiseTrend watches the failed trials of one line search, shortest last,
+// for the mark of a wrong gradient: f rising in proportion to the step,
+// f(x + t·d) − f(x) ≈ c·t with c > 0, so that the gradient's predicted
+// fall is contradicted at every scale. At a minimizer f instead rises
+// like t² (curvature) or changes by rounding noise that does not follow
+// t, and a search that finds no decrease there has converged. Three
+// consecutive pairs of trials whose rises agree with proportionality
+// within a factor of √2 make the trend; a trial that breaks it starts
+// over. This is the linear model's test at the heart of gradient checking
+// (Nocedal & Wright 2006, §8.1: a correct gradient makes the error of
+// f(x) + t·∇fᵀd shrink like t²).
+type concaveRightWolfeMTAlphaEm3RiseTrend struct {
+	step, rise float64 // the previous failed trial
+	linear     int     // consecutive proportional rises so far
+}
+
+// add records a failed trial t whose value changed f by rise (NaN or ±Inf
+// when the value was not finite).
+func (r *concaveRightWolfeMTAlphaEm3RiseTrend) add(t, rise float64) {
+	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
+	if rise > 0 && r.rise > 0 && ratio >= 0.7071 && ratio <= 1.4143 {
+		r.linear++
+	} else {
+		r.linear = 0
+	}
+	r.step, r.rise = t, rise
+}
+
+// contradicts reports whether the trials showed a proportional rise.
+func (r *concaveRightWolfeMTAlphaEm3RiseTrend) contradicts() bool {
+	return r.linear >= 3
 }
 
 // concaveRightWolfeMTAlphaEm3TinyOrExhausted ends a search that has run below the step limit: no
@@ -496,27 +528,6 @@ func concaveRightWolfeMTAlphaEm3MoveTo(out, x *[1]float64, t float64, d *[1]floa
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// concaveRightWolfeMTAlphaEm3FlatTrial reports whether a failed trial t found f flat along d, to
-// the accuracy the gradient and f allow, so that no decrease can be
-// expected from any step:
-//
-//   - the change f(x + t·d) − f(x) = ft − fx is at most half the
-//     first-order prediction t·∇fᵀd in size: near a minimizer whose
-//     gradient is known only roughly (differences), the true slope along
-//     d is below that accuracy. A wrong gradient makes f rise about as
-//     fast as it predicts a fall, and never passes. This is the ratio of
-//     actual to predicted reduction of trust-region methods (Nocedal &
-//     Wright 2006, eq. 4.4);
-//   - or the prediction itself, |t·∇fᵀd|, is below the rounding unit of
-//     f, u·|f(x)|: no change that small can show in floating point, so x
-//     is a minimizer to working precision (Dennis & Schnabel 1983, §7.2,
-//     relate the gradient test to the precision of f; recalled from
-//     memory).
-func concaveRightWolfeMTAlphaEm3FlatTrial(fx, ft, t, slope float64) bool {
-	predicted := concaveRightWolfeMTAlphaEm3Abs(t * slope)
-	return concaveRightWolfeMTAlphaEm3Abs(ft-fx) <= 0.5*predicted || predicted <= concaveRightWolfeMTAlphaEm3UnitRoundoff*concaveRightWolfeMTAlphaEm3Abs(fx)
 }
 
 // concaveRightWolfeMTAlphaEm3CurvatureMet is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)

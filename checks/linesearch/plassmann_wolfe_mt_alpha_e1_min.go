@@ -10,7 +10,7 @@ type PlassmannWolfeMTAlphaE1Status uint8
 const (
 	// PlassmannWolfeMTAlphaE1GradientSmall: the largest gradient component fell to the gradient limit: converged.
 	PlassmannWolfeMTAlphaE1GradientSmall PlassmannWolfeMTAlphaE1Status = iota + 1
-	// PlassmannWolfeMTAlphaE1StepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f while f was flat to the accuracy of the gradient (always so with finite differences): converged.
+	// PlassmannWolfeMTAlphaE1StepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f: converged.
 	PlassmannWolfeMTAlphaE1StepTiny
 	// PlassmannWolfeMTAlphaE1OutOfIterations: the iteration limit came first.
 	PlassmannWolfeMTAlphaE1OutOfIterations
@@ -22,7 +22,7 @@ const (
 	PlassmannWolfeMTAlphaE1NonFiniteStart
 	// PlassmannWolfeMTAlphaE1NonFiniteGradient: a gradient component became NaN or ±Inf.
 	PlassmannWolfeMTAlphaE1NonFiniteGradient
-	// PlassmannWolfeMTAlphaE1NoDecrease: no step longer than the step limit decreased f, and f rose about as fast as the analytic gradient said it would fall: the gradient is probably wrong (see the generated gradient test).
+	// PlassmannWolfeMTAlphaE1NoDecrease: no step longer than the step limit decreased f, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test).
 	PlassmannWolfeMTAlphaE1NoDecrease
 )
 
@@ -110,12 +110,11 @@ func PlassmannWolfeMTAlphaE1WithLimits(x0 float64, limits PlassmannWolfeMTAlphaE
 
 // Tunables of PlassmannWolfeMTAlphaE1 from linesearch.toml; the kernels below read them.
 const (
-	plassmannWolfeMTAlphaE1StepInitial    = 999.9999999999991      // step.initial
-	plassmannWolfeMTAlphaE1StepDecrease   = 0.01                   // step.decrease (c1)
-	plassmannWolfeMTAlphaE1StepCurvature  = 0.1                    // step.curvature (c2)
-	plassmannWolfeMTAlphaE1StepTrials     = 40                     // step.trials
-	plassmannWolfeMTAlphaE1DerivativeCost = 0                      // objective calls per gradient
-	plassmannWolfeMTAlphaE1UnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
+	plassmannWolfeMTAlphaE1StepInitial    = 999.9999999999991 // step.initial
+	plassmannWolfeMTAlphaE1StepDecrease   = 0.01              // step.decrease (c1)
+	plassmannWolfeMTAlphaE1StepCurvature  = 0.1               // step.curvature (c2)
+	plassmannWolfeMTAlphaE1StepTrials     = 40                // step.trials
+	plassmannWolfeMTAlphaE1DerivativeCost = 0                 // objective calls per gradient
 )
 
 // plassmannWolfeMTAlphaE1Minimize runs the descent loop from x0 within lim:
@@ -125,9 +124,8 @@ const (
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
 //  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged when
-//     f was flat along d or the gradient is a difference, else no
-//     decrease);
+//     steps shorter than the step limit are left to try (converged,
+//     unless f contradicts an analytic gradient: no decrease);
 //  5. move, refresh the gradient, let the direction learn from the step;
 //  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
 //
@@ -199,14 +197,15 @@ func plassmannWolfeMTAlphaE1Minimize(x0 [1]float64, lim PlassmannWolfeMTAlphaE1L
 			out.status = PlassmannWolfeMTAlphaE1NoAcceptableStep
 			return out
 		case plassmannWolfeMTAlphaE1SearchTiny:
-			// Converged to the step limit when f was flat along d to the
-			// accuracy available (see plassmannWolfeMTAlphaE1FlatTrial), and always with finite
-			// differences: their error, not the true slope, then steers d,
-			// so x is stationary to the accuracy of the differences. With
-			// an analytic gradient that f contradicts, it is not.
-			out.status = PlassmannWolfeMTAlphaE1NoDecrease
-			if found.flat || plassmannWolfeMTAlphaE1DerivativeCost > 0 {
-				out.status = PlassmannWolfeMTAlphaE1StepTiny
+			// Converged to the step limit: no step the step test would
+			// reject decreases f. Not so when an analytic gradient is
+			// contradicted by f rising in proportion to the step (see
+			// plassmannWolfeMTAlphaE1RiseTrend); with differences such a rise means their error,
+			// not the true slope, steers d, and x is stationary to the
+			// accuracy of the differences.
+			out.status = PlassmannWolfeMTAlphaE1StepTiny
+			if found.rising && plassmannWolfeMTAlphaE1DerivativeCost == 0 {
+				out.status = PlassmannWolfeMTAlphaE1NoDecrease
 			}
 			return out
 		}
@@ -387,7 +386,7 @@ func plassmannWolfeMTAlphaE1LineSearch(x *[1]float64, fx float64, d *[1]float64,
 	var high plassmannWolfeMTAlphaE1LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                       // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	flat := false // whether a trial failing sufficient decrease found f flat
+	var trend plassmannWolfeMTAlphaE1RiseTrend // of the trials failing sufficient decrease
 	t := first
 	calls := 0
 	for trial := 0; trial < plassmannWolfeMTAlphaE1StepTrials; trial++ {
@@ -396,7 +395,7 @@ func plassmannWolfeMTAlphaE1LineSearch(x *[1]float64, fx float64, d *[1]float64,
 			// decreased f; else no step decreased f, unless f was not
 			// finite there.
 			if low.step == 0 {
-				return plassmannWolfeMTAlphaE1LineResult{calls: calls, flat: flat, end: plassmannWolfeMTAlphaE1TinyOrExhausted(plassmannWolfeMTAlphaE1Finite(high.value))}
+				return plassmannWolfeMTAlphaE1LineResult{calls: calls, rising: trend.contradicts(), end: plassmannWolfeMTAlphaE1TinyOrExhausted(plassmannWolfeMTAlphaE1Finite(high.value))}
 			}
 			return plassmannWolfeMTAlphaE1AcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
 		}
@@ -409,7 +408,7 @@ func plassmannWolfeMTAlphaE1LineSearch(x *[1]float64, fx float64, d *[1]float64,
 		previous := low
 		if !plassmannWolfeMTAlphaE1Finite(current.value) || current.value > fx+plassmannWolfeMTAlphaE1StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			flat = flat || plassmannWolfeMTAlphaE1Finite(current.value) && plassmannWolfeMTAlphaE1FlatTrial(fx, current.value, t, slope)
+			trend.add(t, current.value-fx)
 		} else {
 			if calls+plassmannWolfeMTAlphaE1DerivativeCost > budget {
 				return plassmannWolfeMTAlphaE1LineResult{calls: calls, end: plassmannWolfeMTAlphaE1SearchOutOfBudget}
@@ -448,7 +447,7 @@ type plassmannWolfeMTAlphaE1LineResult struct {
 	value    float64                          // f(x + t·d)
 	calls    int                              // objective calls spent, finite differences included
 	gradient bool                             // whether gt holds ∇f(x + t·d) already
-	flat     bool                             // whether a failed trial found f flat along d (see plassmannWolfeMTAlphaE1FlatTrial)
+	rising   bool                             // whether the failed trials rose in proportion to t (see plassmannWolfeMTAlphaE1RiseTrend)
 	end      plassmannWolfeMTAlphaE1SearchEnd // how the search ended
 }
 
@@ -460,6 +459,39 @@ type plassmannWolfeMTAlphaE1SearchEnd uint8
 type plassmannWolfeMTAlphaE1LinePoint struct {
 	step, value, slope float64
 	hasSlope           bool
+}
+
+// plassmannWolfeMTAlphaE1RiseTrend watches the failed trials of one line search, shortest last,
+// for the mark of a wrong gradient: f rising in proportion to the step,
+// f(x + t·d) − f(x) ≈ c·t with c > 0, so that the gradient's predicted
+// fall is contradicted at every scale. At a minimizer f instead rises
+// like t² (curvature) or changes by rounding noise that does not follow
+// t, and a search that finds no decrease there has converged. Three
+// consecutive pairs of trials whose rises agree with proportionality
+// within a factor of √2 make the trend; a trial that breaks it starts
+// over. This is the linear model's test at the heart of gradient checking
+// (Nocedal & Wright 2006, §8.1: a correct gradient makes the error of
+// f(x) + t·∇fᵀd shrink like t²).
+type plassmannWolfeMTAlphaE1RiseTrend struct {
+	step, rise float64 // the previous failed trial
+	linear     int     // consecutive proportional rises so far
+}
+
+// add records a failed trial t whose value changed f by rise (NaN or ±Inf
+// when the value was not finite).
+func (r *plassmannWolfeMTAlphaE1RiseTrend) add(t, rise float64) {
+	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
+	if rise > 0 && r.rise > 0 && ratio >= 0.7071 && ratio <= 1.4143 {
+		r.linear++
+	} else {
+		r.linear = 0
+	}
+	r.step, r.rise = t, rise
+}
+
+// contradicts reports whether the trials showed a proportional rise.
+func (r *plassmannWolfeMTAlphaE1RiseTrend) contradicts() bool {
+	return r.linear >= 3
 }
 
 // plassmannWolfeMTAlphaE1TinyOrExhausted ends a search that has run below the step limit: no
@@ -496,27 +528,6 @@ func plassmannWolfeMTAlphaE1MoveTo(out, x *[1]float64, t float64, d *[1]float64)
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// plassmannWolfeMTAlphaE1FlatTrial reports whether a failed trial t found f flat along d, to
-// the accuracy the gradient and f allow, so that no decrease can be
-// expected from any step:
-//
-//   - the change f(x + t·d) − f(x) = ft − fx is at most half the
-//     first-order prediction t·∇fᵀd in size: near a minimizer whose
-//     gradient is known only roughly (differences), the true slope along
-//     d is below that accuracy. A wrong gradient makes f rise about as
-//     fast as it predicts a fall, and never passes. This is the ratio of
-//     actual to predicted reduction of trust-region methods (Nocedal &
-//     Wright 2006, eq. 4.4);
-//   - or the prediction itself, |t·∇fᵀd|, is below the rounding unit of
-//     f, u·|f(x)|: no change that small can show in floating point, so x
-//     is a minimizer to working precision (Dennis & Schnabel 1983, §7.2,
-//     relate the gradient test to the precision of f; recalled from
-//     memory).
-func plassmannWolfeMTAlphaE1FlatTrial(fx, ft, t, slope float64) bool {
-	predicted := plassmannWolfeMTAlphaE1Abs(t * slope)
-	return plassmannWolfeMTAlphaE1Abs(ft-fx) <= 0.5*predicted || predicted <= plassmannWolfeMTAlphaE1UnitRoundoff*plassmannWolfeMTAlphaE1Abs(fx)
 }
 
 // plassmannWolfeMTAlphaE1CurvatureMet is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)

@@ -10,7 +10,7 @@ type Box3DBFGSCentralStatus uint8
 const (
 	// Box3DBFGSCentralGradientSmall: the largest gradient component fell to the gradient limit: converged.
 	Box3DBFGSCentralGradientSmall Box3DBFGSCentralStatus = iota + 1
-	// Box3DBFGSCentralStepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f while f was flat to the accuracy of the gradient (always so with finite differences): converged.
+	// Box3DBFGSCentralStepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f: converged.
 	Box3DBFGSCentralStepTiny
 	// Box3DBFGSCentralOutOfIterations: the iteration limit came first.
 	Box3DBFGSCentralOutOfIterations
@@ -22,7 +22,7 @@ const (
 	Box3DBFGSCentralNonFiniteStart
 	// Box3DBFGSCentralNonFiniteGradient: a gradient component became NaN or ±Inf.
 	Box3DBFGSCentralNonFiniteGradient
-	// Box3DBFGSCentralNoDecrease: no step longer than the step limit decreased f, and f rose about as fast as the analytic gradient said it would fall: the gradient is probably wrong (see the generated gradient test).
+	// Box3DBFGSCentralNoDecrease: no step longer than the step limit decreased f, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test).
 	Box3DBFGSCentralNoDecrease
 )
 
@@ -126,9 +126,8 @@ const (
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
 //  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged when
-//     f was flat along d or the gradient is a difference, else no
-//     decrease);
+//     steps shorter than the step limit are left to try (converged,
+//     unless f contradicts an analytic gradient: no decrease);
 //  5. move, refresh the gradient, let the direction learn from the step;
 //  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
 //
@@ -200,14 +199,15 @@ func box3DBFGSCentralMinimize(x0 [3]float64, lim Box3DBFGSCentralLimits) box3DBF
 			out.status = Box3DBFGSCentralNoAcceptableStep
 			return out
 		case box3DBFGSCentralSearchTiny:
-			// Converged to the step limit when f was flat along d to the
-			// accuracy available (see box3DBFGSCentralFlatTrial), and always with finite
-			// differences: their error, not the true slope, then steers d,
-			// so x is stationary to the accuracy of the differences. With
-			// an analytic gradient that f contradicts, it is not.
-			out.status = Box3DBFGSCentralNoDecrease
-			if found.flat || box3DBFGSCentralDerivativeCost > 0 {
-				out.status = Box3DBFGSCentralStepTiny
+			// Converged to the step limit: no step the step test would
+			// reject decreases f. Not so when an analytic gradient is
+			// contradicted by f rising in proportion to the step (see
+			// box3DBFGSCentralRiseTrend); with differences such a rise means their error,
+			// not the true slope, steers d, and x is stationary to the
+			// accuracy of the differences.
+			out.status = Box3DBFGSCentralStepTiny
+			if found.rising && box3DBFGSCentralDerivativeCost == 0 {
+				out.status = Box3DBFGSCentralNoDecrease
 			}
 			return out
 		}
@@ -460,7 +460,7 @@ func box3DBFGSCentralLineSearch(x *[3]float64, fx float64, d *[3]float64, slope,
 	var high box3DBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                                // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	flat := false // whether a trial failing sufficient decrease found f flat
+	var trend box3DBFGSCentralRiseTrend // of the trials failing sufficient decrease
 	t := first
 	calls := 0
 	for trial := 0; trial < box3DBFGSCentralStepTrials; trial++ {
@@ -469,7 +469,7 @@ func box3DBFGSCentralLineSearch(x *[3]float64, fx float64, d *[3]float64, slope,
 			// decreased f; else no step decreased f, unless f was not
 			// finite there.
 			if low.step == 0 {
-				return box3DBFGSCentralLineResult{calls: calls, flat: flat, end: box3DBFGSCentralTinyOrExhausted(box3DBFGSCentralFinite(high.value))}
+				return box3DBFGSCentralLineResult{calls: calls, rising: trend.contradicts(), end: box3DBFGSCentralTinyOrExhausted(box3DBFGSCentralFinite(high.value))}
 			}
 			return box3DBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
 		}
@@ -482,7 +482,7 @@ func box3DBFGSCentralLineSearch(x *[3]float64, fx float64, d *[3]float64, slope,
 		previous := low
 		if !box3DBFGSCentralFinite(current.value) || current.value > fx+box3DBFGSCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			flat = flat || box3DBFGSCentralFinite(current.value) && box3DBFGSCentralFlatTrial(fx, current.value, t, slope)
+			trend.add(t, current.value-fx)
 		} else {
 			if calls+box3DBFGSCentralDerivativeCost > budget {
 				return box3DBFGSCentralLineResult{calls: calls, end: box3DBFGSCentralSearchOutOfBudget}
@@ -521,7 +521,7 @@ type box3DBFGSCentralLineResult struct {
 	value    float64                   // f(x + t·d)
 	calls    int                       // objective calls spent, finite differences included
 	gradient bool                      // whether gt holds ∇f(x + t·d) already
-	flat     bool                      // whether a failed trial found f flat along d (see box3DBFGSCentralFlatTrial)
+	rising   bool                      // whether the failed trials rose in proportion to t (see box3DBFGSCentralRiseTrend)
 	end      box3DBFGSCentralSearchEnd // how the search ended
 }
 
@@ -533,6 +533,39 @@ type box3DBFGSCentralSearchEnd uint8
 type box3DBFGSCentralLinePoint struct {
 	step, value, slope float64
 	hasSlope           bool
+}
+
+// box3DBFGSCentralRiseTrend watches the failed trials of one line search, shortest last,
+// for the mark of a wrong gradient: f rising in proportion to the step,
+// f(x + t·d) − f(x) ≈ c·t with c > 0, so that the gradient's predicted
+// fall is contradicted at every scale. At a minimizer f instead rises
+// like t² (curvature) or changes by rounding noise that does not follow
+// t, and a search that finds no decrease there has converged. Three
+// consecutive pairs of trials whose rises agree with proportionality
+// within a factor of √2 make the trend; a trial that breaks it starts
+// over. This is the linear model's test at the heart of gradient checking
+// (Nocedal & Wright 2006, §8.1: a correct gradient makes the error of
+// f(x) + t·∇fᵀd shrink like t²).
+type box3DBFGSCentralRiseTrend struct {
+	step, rise float64 // the previous failed trial
+	linear     int     // consecutive proportional rises so far
+}
+
+// add records a failed trial t whose value changed f by rise (NaN or ±Inf
+// when the value was not finite).
+func (r *box3DBFGSCentralRiseTrend) add(t, rise float64) {
+	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
+	if rise > 0 && r.rise > 0 && ratio >= 0.7071 && ratio <= 1.4143 {
+		r.linear++
+	} else {
+		r.linear = 0
+	}
+	r.step, r.rise = t, rise
+}
+
+// contradicts reports whether the trials showed a proportional rise.
+func (r *box3DBFGSCentralRiseTrend) contradicts() bool {
+	return r.linear >= 3
 }
 
 // box3DBFGSCentralTinyOrExhausted ends a search that has run below the step limit: no
@@ -569,27 +602,6 @@ func box3DBFGSCentralMoveTo(out, x *[3]float64, t float64, d *[3]float64) {
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// box3DBFGSCentralFlatTrial reports whether a failed trial t found f flat along d, to
-// the accuracy the gradient and f allow, so that no decrease can be
-// expected from any step:
-//
-//   - the change f(x + t·d) − f(x) = ft − fx is at most half the
-//     first-order prediction t·∇fᵀd in size: near a minimizer whose
-//     gradient is known only roughly (differences), the true slope along
-//     d is below that accuracy. A wrong gradient makes f rise about as
-//     fast as it predicts a fall, and never passes. This is the ratio of
-//     actual to predicted reduction of trust-region methods (Nocedal &
-//     Wright 2006, eq. 4.4);
-//   - or the prediction itself, |t·∇fᵀd|, is below the rounding unit of
-//     f, u·|f(x)|: no change that small can show in floating point, so x
-//     is a minimizer to working precision (Dennis & Schnabel 1983, §7.2,
-//     relate the gradient test to the precision of f; recalled from
-//     memory).
-func box3DBFGSCentralFlatTrial(fx, ft, t, slope float64) bool {
-	predicted := box3DBFGSCentralAbs(t * slope)
-	return box3DBFGSCentralAbs(ft-fx) <= 0.5*predicted || predicted <= box3DBFGSCentralUnitRoundoff*box3DBFGSCentralAbs(fx)
 }
 
 // box3DBFGSCentralCurvatureMet is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)

@@ -10,7 +10,7 @@ type BrownBadlyScaledLBFGSAnalyticStatus uint8
 const (
 	// BrownBadlyScaledLBFGSAnalyticGradientSmall: the largest gradient component fell to the gradient limit: converged.
 	BrownBadlyScaledLBFGSAnalyticGradientSmall BrownBadlyScaledLBFGSAnalyticStatus = iota + 1
-	// BrownBadlyScaledLBFGSAnalyticStepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f while f was flat to the accuracy of the gradient (always so with finite differences): converged.
+	// BrownBadlyScaledLBFGSAnalyticStepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f: converged.
 	BrownBadlyScaledLBFGSAnalyticStepTiny
 	// BrownBadlyScaledLBFGSAnalyticOutOfIterations: the iteration limit came first.
 	BrownBadlyScaledLBFGSAnalyticOutOfIterations
@@ -22,7 +22,7 @@ const (
 	BrownBadlyScaledLBFGSAnalyticNonFiniteStart
 	// BrownBadlyScaledLBFGSAnalyticNonFiniteGradient: a gradient component became NaN or ±Inf.
 	BrownBadlyScaledLBFGSAnalyticNonFiniteGradient
-	// BrownBadlyScaledLBFGSAnalyticNoDecrease: no step longer than the step limit decreased f, and f rose about as fast as the analytic gradient said it would fall: the gradient is probably wrong (see the generated gradient test).
+	// BrownBadlyScaledLBFGSAnalyticNoDecrease: no step longer than the step limit decreased f, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test).
 	BrownBadlyScaledLBFGSAnalyticNoDecrease
 )
 
@@ -126,9 +126,8 @@ const (
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
 //  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged when
-//     f was flat along d or the gradient is a difference, else no
-//     decrease);
+//     steps shorter than the step limit are left to try (converged,
+//     unless f contradicts an analytic gradient: no decrease);
 //  5. move, refresh the gradient, let the direction learn from the step;
 //  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
 //
@@ -200,14 +199,15 @@ func brownBadlyScaledLBFGSAnalyticMinimize(x0 [2]float64, lim BrownBadlyScaledLB
 			out.status = BrownBadlyScaledLBFGSAnalyticNoAcceptableStep
 			return out
 		case brownBadlyScaledLBFGSAnalyticSearchTiny:
-			// Converged to the step limit when f was flat along d to the
-			// accuracy available (see brownBadlyScaledLBFGSAnalyticFlatTrial), and always with finite
-			// differences: their error, not the true slope, then steers d,
-			// so x is stationary to the accuracy of the differences. With
-			// an analytic gradient that f contradicts, it is not.
-			out.status = BrownBadlyScaledLBFGSAnalyticNoDecrease
-			if found.flat || brownBadlyScaledLBFGSAnalyticDerivativeCost > 0 {
-				out.status = BrownBadlyScaledLBFGSAnalyticStepTiny
+			// Converged to the step limit: no step the step test would
+			// reject decreases f. Not so when an analytic gradient is
+			// contradicted by f rising in proportion to the step (see
+			// brownBadlyScaledLBFGSAnalyticRiseTrend); with differences such a rise means their error,
+			// not the true slope, steers d, and x is stationary to the
+			// accuracy of the differences.
+			out.status = BrownBadlyScaledLBFGSAnalyticStepTiny
+			if found.rising && brownBadlyScaledLBFGSAnalyticDerivativeCost == 0 {
+				out.status = BrownBadlyScaledLBFGSAnalyticNoDecrease
 			}
 			return out
 		}
@@ -460,7 +460,7 @@ func brownBadlyScaledLBFGSAnalyticLineSearch(x *[2]float64, fx float64, d *[2]fl
 	var high brownBadlyScaledLBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                             // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	flat := false // whether a trial failing sufficient decrease found f flat
+	var trend brownBadlyScaledLBFGSAnalyticRiseTrend // of the trials failing sufficient decrease
 	t := first
 	calls := 0
 	for trial := 0; trial < brownBadlyScaledLBFGSAnalyticStepTrials; trial++ {
@@ -469,7 +469,7 @@ func brownBadlyScaledLBFGSAnalyticLineSearch(x *[2]float64, fx float64, d *[2]fl
 			// decreased f; else no step decreased f, unless f was not
 			// finite there.
 			if low.step == 0 {
-				return brownBadlyScaledLBFGSAnalyticLineResult{calls: calls, flat: flat, end: brownBadlyScaledLBFGSAnalyticTinyOrExhausted(brownBadlyScaledLBFGSAnalyticFinite(high.value))}
+				return brownBadlyScaledLBFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: brownBadlyScaledLBFGSAnalyticTinyOrExhausted(brownBadlyScaledLBFGSAnalyticFinite(high.value))}
 			}
 			return brownBadlyScaledLBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
 		}
@@ -482,7 +482,7 @@ func brownBadlyScaledLBFGSAnalyticLineSearch(x *[2]float64, fx float64, d *[2]fl
 		previous := low
 		if !brownBadlyScaledLBFGSAnalyticFinite(current.value) || current.value > fx+brownBadlyScaledLBFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			flat = flat || brownBadlyScaledLBFGSAnalyticFinite(current.value) && brownBadlyScaledLBFGSAnalyticFlatTrial(fx, current.value, t, slope)
+			trend.add(t, current.value-fx)
 		} else {
 			if calls+brownBadlyScaledLBFGSAnalyticDerivativeCost > budget {
 				return brownBadlyScaledLBFGSAnalyticLineResult{calls: calls, end: brownBadlyScaledLBFGSAnalyticSearchOutOfBudget}
@@ -521,7 +521,7 @@ type brownBadlyScaledLBFGSAnalyticLineResult struct {
 	value    float64                                // f(x + t·d)
 	calls    int                                    // objective calls spent, finite differences included
 	gradient bool                                   // whether gt holds ∇f(x + t·d) already
-	flat     bool                                   // whether a failed trial found f flat along d (see brownBadlyScaledLBFGSAnalyticFlatTrial)
+	rising   bool                                   // whether the failed trials rose in proportion to t (see brownBadlyScaledLBFGSAnalyticRiseTrend)
 	end      brownBadlyScaledLBFGSAnalyticSearchEnd // how the search ended
 }
 
@@ -533,6 +533,39 @@ type brownBadlyScaledLBFGSAnalyticSearchEnd uint8
 type brownBadlyScaledLBFGSAnalyticLinePoint struct {
 	step, value, slope float64
 	hasSlope           bool
+}
+
+// brownBadlyScaledLBFGSAnalyticRiseTrend watches the failed trials of one line search, shortest last,
+// for the mark of a wrong gradient: f rising in proportion to the step,
+// f(x + t·d) − f(x) ≈ c·t with c > 0, so that the gradient's predicted
+// fall is contradicted at every scale. At a minimizer f instead rises
+// like t² (curvature) or changes by rounding noise that does not follow
+// t, and a search that finds no decrease there has converged. Three
+// consecutive pairs of trials whose rises agree with proportionality
+// within a factor of √2 make the trend; a trial that breaks it starts
+// over. This is the linear model's test at the heart of gradient checking
+// (Nocedal & Wright 2006, §8.1: a correct gradient makes the error of
+// f(x) + t·∇fᵀd shrink like t²).
+type brownBadlyScaledLBFGSAnalyticRiseTrend struct {
+	step, rise float64 // the previous failed trial
+	linear     int     // consecutive proportional rises so far
+}
+
+// add records a failed trial t whose value changed f by rise (NaN or ±Inf
+// when the value was not finite).
+func (r *brownBadlyScaledLBFGSAnalyticRiseTrend) add(t, rise float64) {
+	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
+	if rise > 0 && r.rise > 0 && ratio >= 0.7071 && ratio <= 1.4143 {
+		r.linear++
+	} else {
+		r.linear = 0
+	}
+	r.step, r.rise = t, rise
+}
+
+// contradicts reports whether the trials showed a proportional rise.
+func (r *brownBadlyScaledLBFGSAnalyticRiseTrend) contradicts() bool {
+	return r.linear >= 3
 }
 
 // brownBadlyScaledLBFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: no
@@ -569,27 +602,6 @@ func brownBadlyScaledLBFGSAnalyticMoveTo(out, x *[2]float64, t float64, d *[2]fl
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// brownBadlyScaledLBFGSAnalyticFlatTrial reports whether a failed trial t found f flat along d, to
-// the accuracy the gradient and f allow, so that no decrease can be
-// expected from any step:
-//
-//   - the change f(x + t·d) − f(x) = ft − fx is at most half the
-//     first-order prediction t·∇fᵀd in size: near a minimizer whose
-//     gradient is known only roughly (differences), the true slope along
-//     d is below that accuracy. A wrong gradient makes f rise about as
-//     fast as it predicts a fall, and never passes. This is the ratio of
-//     actual to predicted reduction of trust-region methods (Nocedal &
-//     Wright 2006, eq. 4.4);
-//   - or the prediction itself, |t·∇fᵀd|, is below the rounding unit of
-//     f, u·|f(x)|: no change that small can show in floating point, so x
-//     is a minimizer to working precision (Dennis & Schnabel 1983, §7.2,
-//     relate the gradient test to the precision of f; recalled from
-//     memory).
-func brownBadlyScaledLBFGSAnalyticFlatTrial(fx, ft, t, slope float64) bool {
-	predicted := brownBadlyScaledLBFGSAnalyticAbs(t * slope)
-	return brownBadlyScaledLBFGSAnalyticAbs(ft-fx) <= 0.5*predicted || predicted <= brownBadlyScaledLBFGSAnalyticUnitRoundoff*brownBadlyScaledLBFGSAnalyticAbs(fx)
 }
 
 // brownBadlyScaledLBFGSAnalyticCurvatureMet is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)

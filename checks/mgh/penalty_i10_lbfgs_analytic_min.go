@@ -10,7 +10,7 @@ type PenaltyI10LBFGSAnalyticStatus uint8
 const (
 	// PenaltyI10LBFGSAnalyticGradientSmall: the largest gradient component fell to the gradient limit: converged.
 	PenaltyI10LBFGSAnalyticGradientSmall PenaltyI10LBFGSAnalyticStatus = iota + 1
-	// PenaltyI10LBFGSAnalyticStepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f while f was flat to the accuracy of the gradient (always so with finite differences): converged.
+	// PenaltyI10LBFGSAnalyticStepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f: converged.
 	PenaltyI10LBFGSAnalyticStepTiny
 	// PenaltyI10LBFGSAnalyticOutOfIterations: the iteration limit came first.
 	PenaltyI10LBFGSAnalyticOutOfIterations
@@ -22,7 +22,7 @@ const (
 	PenaltyI10LBFGSAnalyticNonFiniteStart
 	// PenaltyI10LBFGSAnalyticNonFiniteGradient: a gradient component became NaN or ±Inf.
 	PenaltyI10LBFGSAnalyticNonFiniteGradient
-	// PenaltyI10LBFGSAnalyticNoDecrease: no step longer than the step limit decreased f, and f rose about as fast as the analytic gradient said it would fall: the gradient is probably wrong (see the generated gradient test).
+	// PenaltyI10LBFGSAnalyticNoDecrease: no step longer than the step limit decreased f, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test).
 	PenaltyI10LBFGSAnalyticNoDecrease
 )
 
@@ -126,9 +126,8 @@ const (
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
 //  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged when
-//     f was flat along d or the gradient is a difference, else no
-//     decrease);
+//     steps shorter than the step limit are left to try (converged,
+//     unless f contradicts an analytic gradient: no decrease);
 //  5. move, refresh the gradient, let the direction learn from the step;
 //  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
 //
@@ -200,14 +199,15 @@ func penaltyI10LBFGSAnalyticMinimize(x0 [10]float64, lim PenaltyI10LBFGSAnalytic
 			out.status = PenaltyI10LBFGSAnalyticNoAcceptableStep
 			return out
 		case penaltyI10LBFGSAnalyticSearchTiny:
-			// Converged to the step limit when f was flat along d to the
-			// accuracy available (see penaltyI10LBFGSAnalyticFlatTrial), and always with finite
-			// differences: their error, not the true slope, then steers d,
-			// so x is stationary to the accuracy of the differences. With
-			// an analytic gradient that f contradicts, it is not.
-			out.status = PenaltyI10LBFGSAnalyticNoDecrease
-			if found.flat || penaltyI10LBFGSAnalyticDerivativeCost > 0 {
-				out.status = PenaltyI10LBFGSAnalyticStepTiny
+			// Converged to the step limit: no step the step test would
+			// reject decreases f. Not so when an analytic gradient is
+			// contradicted by f rising in proportion to the step (see
+			// penaltyI10LBFGSAnalyticRiseTrend); with differences such a rise means their error,
+			// not the true slope, steers d, and x is stationary to the
+			// accuracy of the differences.
+			out.status = PenaltyI10LBFGSAnalyticStepTiny
+			if found.rising && penaltyI10LBFGSAnalyticDerivativeCost == 0 {
+				out.status = PenaltyI10LBFGSAnalyticNoDecrease
 			}
 			return out
 		}
@@ -460,7 +460,7 @@ func penaltyI10LBFGSAnalyticLineSearch(x *[10]float64, fx float64, d *[10]float6
 	var high penaltyI10LBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                      // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	flat := false // whether a trial failing sufficient decrease found f flat
+	var trend penaltyI10LBFGSAnalyticRiseTrend // of the trials failing sufficient decrease
 	t := first
 	calls := 0
 	for trial := 0; trial < penaltyI10LBFGSAnalyticStepTrials; trial++ {
@@ -469,7 +469,7 @@ func penaltyI10LBFGSAnalyticLineSearch(x *[10]float64, fx float64, d *[10]float6
 			// decreased f; else no step decreased f, unless f was not
 			// finite there.
 			if low.step == 0 {
-				return penaltyI10LBFGSAnalyticLineResult{calls: calls, flat: flat, end: penaltyI10LBFGSAnalyticTinyOrExhausted(penaltyI10LBFGSAnalyticFinite(high.value))}
+				return penaltyI10LBFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: penaltyI10LBFGSAnalyticTinyOrExhausted(penaltyI10LBFGSAnalyticFinite(high.value))}
 			}
 			return penaltyI10LBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
 		}
@@ -482,7 +482,7 @@ func penaltyI10LBFGSAnalyticLineSearch(x *[10]float64, fx float64, d *[10]float6
 		previous := low
 		if !penaltyI10LBFGSAnalyticFinite(current.value) || current.value > fx+penaltyI10LBFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			flat = flat || penaltyI10LBFGSAnalyticFinite(current.value) && penaltyI10LBFGSAnalyticFlatTrial(fx, current.value, t, slope)
+			trend.add(t, current.value-fx)
 		} else {
 			if calls+penaltyI10LBFGSAnalyticDerivativeCost > budget {
 				return penaltyI10LBFGSAnalyticLineResult{calls: calls, end: penaltyI10LBFGSAnalyticSearchOutOfBudget}
@@ -521,7 +521,7 @@ type penaltyI10LBFGSAnalyticLineResult struct {
 	value    float64                          // f(x + t·d)
 	calls    int                              // objective calls spent, finite differences included
 	gradient bool                             // whether gt holds ∇f(x + t·d) already
-	flat     bool                             // whether a failed trial found f flat along d (see penaltyI10LBFGSAnalyticFlatTrial)
+	rising   bool                             // whether the failed trials rose in proportion to t (see penaltyI10LBFGSAnalyticRiseTrend)
 	end      penaltyI10LBFGSAnalyticSearchEnd // how the search ended
 }
 
@@ -533,6 +533,39 @@ type penaltyI10LBFGSAnalyticSearchEnd uint8
 type penaltyI10LBFGSAnalyticLinePoint struct {
 	step, value, slope float64
 	hasSlope           bool
+}
+
+// penaltyI10LBFGSAnalyticRiseTrend watches the failed trials of one line search, shortest last,
+// for the mark of a wrong gradient: f rising in proportion to the step,
+// f(x + t·d) − f(x) ≈ c·t with c > 0, so that the gradient's predicted
+// fall is contradicted at every scale. At a minimizer f instead rises
+// like t² (curvature) or changes by rounding noise that does not follow
+// t, and a search that finds no decrease there has converged. Three
+// consecutive pairs of trials whose rises agree with proportionality
+// within a factor of √2 make the trend; a trial that breaks it starts
+// over. This is the linear model's test at the heart of gradient checking
+// (Nocedal & Wright 2006, §8.1: a correct gradient makes the error of
+// f(x) + t·∇fᵀd shrink like t²).
+type penaltyI10LBFGSAnalyticRiseTrend struct {
+	step, rise float64 // the previous failed trial
+	linear     int     // consecutive proportional rises so far
+}
+
+// add records a failed trial t whose value changed f by rise (NaN or ±Inf
+// when the value was not finite).
+func (r *penaltyI10LBFGSAnalyticRiseTrend) add(t, rise float64) {
+	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
+	if rise > 0 && r.rise > 0 && ratio >= 0.7071 && ratio <= 1.4143 {
+		r.linear++
+	} else {
+		r.linear = 0
+	}
+	r.step, r.rise = t, rise
+}
+
+// contradicts reports whether the trials showed a proportional rise.
+func (r *penaltyI10LBFGSAnalyticRiseTrend) contradicts() bool {
+	return r.linear >= 3
 }
 
 // penaltyI10LBFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: no
@@ -569,27 +602,6 @@ func penaltyI10LBFGSAnalyticMoveTo(out, x *[10]float64, t float64, d *[10]float6
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// penaltyI10LBFGSAnalyticFlatTrial reports whether a failed trial t found f flat along d, to
-// the accuracy the gradient and f allow, so that no decrease can be
-// expected from any step:
-//
-//   - the change f(x + t·d) − f(x) = ft − fx is at most half the
-//     first-order prediction t·∇fᵀd in size: near a minimizer whose
-//     gradient is known only roughly (differences), the true slope along
-//     d is below that accuracy. A wrong gradient makes f rise about as
-//     fast as it predicts a fall, and never passes. This is the ratio of
-//     actual to predicted reduction of trust-region methods (Nocedal &
-//     Wright 2006, eq. 4.4);
-//   - or the prediction itself, |t·∇fᵀd|, is below the rounding unit of
-//     f, u·|f(x)|: no change that small can show in floating point, so x
-//     is a minimizer to working precision (Dennis & Schnabel 1983, §7.2,
-//     relate the gradient test to the precision of f; recalled from
-//     memory).
-func penaltyI10LBFGSAnalyticFlatTrial(fx, ft, t, slope float64) bool {
-	predicted := penaltyI10LBFGSAnalyticAbs(t * slope)
-	return penaltyI10LBFGSAnalyticAbs(ft-fx) <= 0.5*predicted || predicted <= penaltyI10LBFGSAnalyticUnitRoundoff*penaltyI10LBFGSAnalyticAbs(fx)
 }
 
 // penaltyI10LBFGSAnalyticCurvatureMet is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)

@@ -10,7 +10,7 @@ type PenaltyII4CGAnalyticStatus uint8
 const (
 	// PenaltyII4CGAnalyticGradientSmall: the largest gradient component fell to the gradient limit: converged.
 	PenaltyII4CGAnalyticGradientSmall PenaltyII4CGAnalyticStatus = iota + 1
-	// PenaltyII4CGAnalyticStepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f while f was flat to the accuracy of the gradient (always so with finite differences): converged.
+	// PenaltyII4CGAnalyticStepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f: converged.
 	PenaltyII4CGAnalyticStepTiny
 	// PenaltyII4CGAnalyticOutOfIterations: the iteration limit came first.
 	PenaltyII4CGAnalyticOutOfIterations
@@ -22,7 +22,7 @@ const (
 	PenaltyII4CGAnalyticNonFiniteStart
 	// PenaltyII4CGAnalyticNonFiniteGradient: a gradient component became NaN or ±Inf.
 	PenaltyII4CGAnalyticNonFiniteGradient
-	// PenaltyII4CGAnalyticNoDecrease: no step longer than the step limit decreased f, and f rose about as fast as the analytic gradient said it would fall: the gradient is probably wrong (see the generated gradient test).
+	// PenaltyII4CGAnalyticNoDecrease: no step longer than the step limit decreased f, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test).
 	PenaltyII4CGAnalyticNoDecrease
 )
 
@@ -110,12 +110,11 @@ func PenaltyII4CGAnalyticWithLimits(x0 [4]float64, limits PenaltyII4CGAnalyticLi
 
 // Tunables of PenaltyII4CGAnalytic from mgh.toml; the kernels below read them.
 const (
-	penaltyII4CGAnalyticStepInitial    = 1.0                    // step.initial
-	penaltyII4CGAnalyticStepDecrease   = 0.0001                 // step.decrease (c1)
-	penaltyII4CGAnalyticStepCurvature  = 0.1                    // step.curvature (c2)
-	penaltyII4CGAnalyticStepTrials     = 40                     // step.trials
-	penaltyII4CGAnalyticDerivativeCost = 0                      // objective calls per gradient
-	penaltyII4CGAnalyticUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
+	penaltyII4CGAnalyticStepInitial    = 1.0    // step.initial
+	penaltyII4CGAnalyticStepDecrease   = 0.0001 // step.decrease (c1)
+	penaltyII4CGAnalyticStepCurvature  = 0.1    // step.curvature (c2)
+	penaltyII4CGAnalyticStepTrials     = 40     // step.trials
+	penaltyII4CGAnalyticDerivativeCost = 0      // objective calls per gradient
 )
 
 // penaltyII4CGAnalyticMinimize runs the descent loop from x0 within lim:
@@ -125,9 +124,8 @@ const (
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
 //  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged when
-//     f was flat along d or the gradient is a difference, else no
-//     decrease);
+//     steps shorter than the step limit are left to try (converged,
+//     unless f contradicts an analytic gradient: no decrease);
 //  5. move, refresh the gradient, let the direction learn from the step;
 //  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
 //
@@ -199,14 +197,15 @@ func penaltyII4CGAnalyticMinimize(x0 [4]float64, lim PenaltyII4CGAnalyticLimits)
 			out.status = PenaltyII4CGAnalyticNoAcceptableStep
 			return out
 		case penaltyII4CGAnalyticSearchTiny:
-			// Converged to the step limit when f was flat along d to the
-			// accuracy available (see penaltyII4CGAnalyticFlatTrial), and always with finite
-			// differences: their error, not the true slope, then steers d,
-			// so x is stationary to the accuracy of the differences. With
-			// an analytic gradient that f contradicts, it is not.
-			out.status = PenaltyII4CGAnalyticNoDecrease
-			if found.flat || penaltyII4CGAnalyticDerivativeCost > 0 {
-				out.status = PenaltyII4CGAnalyticStepTiny
+			// Converged to the step limit: no step the step test would
+			// reject decreases f. Not so when an analytic gradient is
+			// contradicted by f rising in proportion to the step (see
+			// penaltyII4CGAnalyticRiseTrend); with differences such a rise means their error,
+			// not the true slope, steers d, and x is stationary to the
+			// accuracy of the differences.
+			out.status = PenaltyII4CGAnalyticStepTiny
+			if found.rising && penaltyII4CGAnalyticDerivativeCost == 0 {
+				out.status = PenaltyII4CGAnalyticNoDecrease
 			}
 			return out
 		}
@@ -424,7 +423,7 @@ func penaltyII4CGAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64, sl
 	var high penaltyII4CGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                    // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	flat := false // whether a trial failing sufficient decrease found f flat
+	var trend penaltyII4CGAnalyticRiseTrend // of the trials failing sufficient decrease
 	t := first
 	calls := 0
 	for trial := 0; trial < penaltyII4CGAnalyticStepTrials; trial++ {
@@ -433,7 +432,7 @@ func penaltyII4CGAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64, sl
 			// decreased f; else no step decreased f, unless f was not
 			// finite there.
 			if low.step == 0 {
-				return penaltyII4CGAnalyticLineResult{calls: calls, flat: flat, end: penaltyII4CGAnalyticTinyOrExhausted(penaltyII4CGAnalyticFinite(high.value))}
+				return penaltyII4CGAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: penaltyII4CGAnalyticTinyOrExhausted(penaltyII4CGAnalyticFinite(high.value))}
 			}
 			return penaltyII4CGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
 		}
@@ -446,7 +445,7 @@ func penaltyII4CGAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64, sl
 		previous := low
 		if !penaltyII4CGAnalyticFinite(current.value) || current.value > fx+penaltyII4CGAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			flat = flat || penaltyII4CGAnalyticFinite(current.value) && penaltyII4CGAnalyticFlatTrial(fx, current.value, t, slope)
+			trend.add(t, current.value-fx)
 		} else {
 			if calls+penaltyII4CGAnalyticDerivativeCost > budget {
 				return penaltyII4CGAnalyticLineResult{calls: calls, end: penaltyII4CGAnalyticSearchOutOfBudget}
@@ -485,7 +484,7 @@ type penaltyII4CGAnalyticLineResult struct {
 	value    float64                       // f(x + t·d)
 	calls    int                           // objective calls spent, finite differences included
 	gradient bool                          // whether gt holds ∇f(x + t·d) already
-	flat     bool                          // whether a failed trial found f flat along d (see penaltyII4CGAnalyticFlatTrial)
+	rising   bool                          // whether the failed trials rose in proportion to t (see penaltyII4CGAnalyticRiseTrend)
 	end      penaltyII4CGAnalyticSearchEnd // how the search ended
 }
 
@@ -497,6 +496,39 @@ type penaltyII4CGAnalyticSearchEnd uint8
 type penaltyII4CGAnalyticLinePoint struct {
 	step, value, slope float64
 	hasSlope           bool
+}
+
+// penaltyII4CGAnalyticRiseTrend watches the failed trials of one line search, shortest last,
+// for the mark of a wrong gradient: f rising in proportion to the step,
+// f(x + t·d) − f(x) ≈ c·t with c > 0, so that the gradient's predicted
+// fall is contradicted at every scale. At a minimizer f instead rises
+// like t² (curvature) or changes by rounding noise that does not follow
+// t, and a search that finds no decrease there has converged. Three
+// consecutive pairs of trials whose rises agree with proportionality
+// within a factor of √2 make the trend; a trial that breaks it starts
+// over. This is the linear model's test at the heart of gradient checking
+// (Nocedal & Wright 2006, §8.1: a correct gradient makes the error of
+// f(x) + t·∇fᵀd shrink like t²).
+type penaltyII4CGAnalyticRiseTrend struct {
+	step, rise float64 // the previous failed trial
+	linear     int     // consecutive proportional rises so far
+}
+
+// add records a failed trial t whose value changed f by rise (NaN or ±Inf
+// when the value was not finite).
+func (r *penaltyII4CGAnalyticRiseTrend) add(t, rise float64) {
+	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
+	if rise > 0 && r.rise > 0 && ratio >= 0.7071 && ratio <= 1.4143 {
+		r.linear++
+	} else {
+		r.linear = 0
+	}
+	r.step, r.rise = t, rise
+}
+
+// contradicts reports whether the trials showed a proportional rise.
+func (r *penaltyII4CGAnalyticRiseTrend) contradicts() bool {
+	return r.linear >= 3
 }
 
 // penaltyII4CGAnalyticTinyOrExhausted ends a search that has run below the step limit: no
@@ -533,27 +565,6 @@ func penaltyII4CGAnalyticMoveTo(out, x *[4]float64, t float64, d *[4]float64) {
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// penaltyII4CGAnalyticFlatTrial reports whether a failed trial t found f flat along d, to
-// the accuracy the gradient and f allow, so that no decrease can be
-// expected from any step:
-//
-//   - the change f(x + t·d) − f(x) = ft − fx is at most half the
-//     first-order prediction t·∇fᵀd in size: near a minimizer whose
-//     gradient is known only roughly (differences), the true slope along
-//     d is below that accuracy. A wrong gradient makes f rise about as
-//     fast as it predicts a fall, and never passes. This is the ratio of
-//     actual to predicted reduction of trust-region methods (Nocedal &
-//     Wright 2006, eq. 4.4);
-//   - or the prediction itself, |t·∇fᵀd|, is below the rounding unit of
-//     f, u·|f(x)|: no change that small can show in floating point, so x
-//     is a minimizer to working precision (Dennis & Schnabel 1983, §7.2,
-//     relate the gradient test to the precision of f; recalled from
-//     memory).
-func penaltyII4CGAnalyticFlatTrial(fx, ft, t, slope float64) bool {
-	predicted := penaltyII4CGAnalyticAbs(t * slope)
-	return penaltyII4CGAnalyticAbs(ft-fx) <= 0.5*predicted || predicted <= penaltyII4CGAnalyticUnitRoundoff*penaltyII4CGAnalyticAbs(fx)
 }
 
 // penaltyII4CGAnalyticCurvatureMet is the strong Wolfe curvature condition

@@ -10,7 +10,7 @@ type Watson6CGAnalyticStatus uint8
 const (
 	// Watson6CGAnalyticGradientSmall: the largest gradient component fell to the gradient limit: converged.
 	Watson6CGAnalyticGradientSmall Watson6CGAnalyticStatus = iota + 1
-	// Watson6CGAnalyticStepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f while f was flat to the accuracy of the gradient (always so with finite differences): converged.
+	// Watson6CGAnalyticStepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f: converged.
 	Watson6CGAnalyticStepTiny
 	// Watson6CGAnalyticOutOfIterations: the iteration limit came first.
 	Watson6CGAnalyticOutOfIterations
@@ -22,7 +22,7 @@ const (
 	Watson6CGAnalyticNonFiniteStart
 	// Watson6CGAnalyticNonFiniteGradient: a gradient component became NaN or ±Inf.
 	Watson6CGAnalyticNonFiniteGradient
-	// Watson6CGAnalyticNoDecrease: no step longer than the step limit decreased f, and f rose about as fast as the analytic gradient said it would fall: the gradient is probably wrong (see the generated gradient test).
+	// Watson6CGAnalyticNoDecrease: no step longer than the step limit decreased f, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test).
 	Watson6CGAnalyticNoDecrease
 )
 
@@ -110,12 +110,11 @@ func Watson6CGAnalyticWithLimits(x0 [6]float64, limits Watson6CGAnalyticLimits) 
 
 // Tunables of Watson6CGAnalytic from mgh.toml; the kernels below read them.
 const (
-	watson6CGAnalyticStepInitial    = 1.0                    // step.initial
-	watson6CGAnalyticStepDecrease   = 0.0001                 // step.decrease (c1)
-	watson6CGAnalyticStepCurvature  = 0.1                    // step.curvature (c2)
-	watson6CGAnalyticStepTrials     = 40                     // step.trials
-	watson6CGAnalyticDerivativeCost = 0                      // objective calls per gradient
-	watson6CGAnalyticUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
+	watson6CGAnalyticStepInitial    = 1.0    // step.initial
+	watson6CGAnalyticStepDecrease   = 0.0001 // step.decrease (c1)
+	watson6CGAnalyticStepCurvature  = 0.1    // step.curvature (c2)
+	watson6CGAnalyticStepTrials     = 40     // step.trials
+	watson6CGAnalyticDerivativeCost = 0      // objective calls per gradient
 )
 
 // watson6CGAnalyticMinimize runs the descent loop from x0 within lim:
@@ -125,9 +124,8 @@ const (
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
 //  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged when
-//     f was flat along d or the gradient is a difference, else no
-//     decrease);
+//     steps shorter than the step limit are left to try (converged,
+//     unless f contradicts an analytic gradient: no decrease);
 //  5. move, refresh the gradient, let the direction learn from the step;
 //  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
 //
@@ -199,14 +197,15 @@ func watson6CGAnalyticMinimize(x0 [6]float64, lim Watson6CGAnalyticLimits) watso
 			out.status = Watson6CGAnalyticNoAcceptableStep
 			return out
 		case watson6CGAnalyticSearchTiny:
-			// Converged to the step limit when f was flat along d to the
-			// accuracy available (see watson6CGAnalyticFlatTrial), and always with finite
-			// differences: their error, not the true slope, then steers d,
-			// so x is stationary to the accuracy of the differences. With
-			// an analytic gradient that f contradicts, it is not.
-			out.status = Watson6CGAnalyticNoDecrease
-			if found.flat || watson6CGAnalyticDerivativeCost > 0 {
-				out.status = Watson6CGAnalyticStepTiny
+			// Converged to the step limit: no step the step test would
+			// reject decreases f. Not so when an analytic gradient is
+			// contradicted by f rising in proportion to the step (see
+			// watson6CGAnalyticRiseTrend); with differences such a rise means their error,
+			// not the true slope, steers d, and x is stationary to the
+			// accuracy of the differences.
+			out.status = Watson6CGAnalyticStepTiny
+			if found.rising && watson6CGAnalyticDerivativeCost == 0 {
+				out.status = Watson6CGAnalyticNoDecrease
 			}
 			return out
 		}
@@ -424,7 +423,7 @@ func watson6CGAnalyticLineSearch(x *[6]float64, fx float64, d *[6]float64, slope
 	var high watson6CGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [6]float64                                                 // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	flat := false // whether a trial failing sufficient decrease found f flat
+	var trend watson6CGAnalyticRiseTrend // of the trials failing sufficient decrease
 	t := first
 	calls := 0
 	for trial := 0; trial < watson6CGAnalyticStepTrials; trial++ {
@@ -433,7 +432,7 @@ func watson6CGAnalyticLineSearch(x *[6]float64, fx float64, d *[6]float64, slope
 			// decreased f; else no step decreased f, unless f was not
 			// finite there.
 			if low.step == 0 {
-				return watson6CGAnalyticLineResult{calls: calls, flat: flat, end: watson6CGAnalyticTinyOrExhausted(watson6CGAnalyticFinite(high.value))}
+				return watson6CGAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: watson6CGAnalyticTinyOrExhausted(watson6CGAnalyticFinite(high.value))}
 			}
 			return watson6CGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
 		}
@@ -446,7 +445,7 @@ func watson6CGAnalyticLineSearch(x *[6]float64, fx float64, d *[6]float64, slope
 		previous := low
 		if !watson6CGAnalyticFinite(current.value) || current.value > fx+watson6CGAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			flat = flat || watson6CGAnalyticFinite(current.value) && watson6CGAnalyticFlatTrial(fx, current.value, t, slope)
+			trend.add(t, current.value-fx)
 		} else {
 			if calls+watson6CGAnalyticDerivativeCost > budget {
 				return watson6CGAnalyticLineResult{calls: calls, end: watson6CGAnalyticSearchOutOfBudget}
@@ -485,7 +484,7 @@ type watson6CGAnalyticLineResult struct {
 	value    float64                    // f(x + t·d)
 	calls    int                        // objective calls spent, finite differences included
 	gradient bool                       // whether gt holds ∇f(x + t·d) already
-	flat     bool                       // whether a failed trial found f flat along d (see watson6CGAnalyticFlatTrial)
+	rising   bool                       // whether the failed trials rose in proportion to t (see watson6CGAnalyticRiseTrend)
 	end      watson6CGAnalyticSearchEnd // how the search ended
 }
 
@@ -497,6 +496,39 @@ type watson6CGAnalyticSearchEnd uint8
 type watson6CGAnalyticLinePoint struct {
 	step, value, slope float64
 	hasSlope           bool
+}
+
+// watson6CGAnalyticRiseTrend watches the failed trials of one line search, shortest last,
+// for the mark of a wrong gradient: f rising in proportion to the step,
+// f(x + t·d) − f(x) ≈ c·t with c > 0, so that the gradient's predicted
+// fall is contradicted at every scale. At a minimizer f instead rises
+// like t² (curvature) or changes by rounding noise that does not follow
+// t, and a search that finds no decrease there has converged. Three
+// consecutive pairs of trials whose rises agree with proportionality
+// within a factor of √2 make the trend; a trial that breaks it starts
+// over. This is the linear model's test at the heart of gradient checking
+// (Nocedal & Wright 2006, §8.1: a correct gradient makes the error of
+// f(x) + t·∇fᵀd shrink like t²).
+type watson6CGAnalyticRiseTrend struct {
+	step, rise float64 // the previous failed trial
+	linear     int     // consecutive proportional rises so far
+}
+
+// add records a failed trial t whose value changed f by rise (NaN or ±Inf
+// when the value was not finite).
+func (r *watson6CGAnalyticRiseTrend) add(t, rise float64) {
+	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
+	if rise > 0 && r.rise > 0 && ratio >= 0.7071 && ratio <= 1.4143 {
+		r.linear++
+	} else {
+		r.linear = 0
+	}
+	r.step, r.rise = t, rise
+}
+
+// contradicts reports whether the trials showed a proportional rise.
+func (r *watson6CGAnalyticRiseTrend) contradicts() bool {
+	return r.linear >= 3
 }
 
 // watson6CGAnalyticTinyOrExhausted ends a search that has run below the step limit: no
@@ -533,27 +565,6 @@ func watson6CGAnalyticMoveTo(out, x *[6]float64, t float64, d *[6]float64) {
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// watson6CGAnalyticFlatTrial reports whether a failed trial t found f flat along d, to
-// the accuracy the gradient and f allow, so that no decrease can be
-// expected from any step:
-//
-//   - the change f(x + t·d) − f(x) = ft − fx is at most half the
-//     first-order prediction t·∇fᵀd in size: near a minimizer whose
-//     gradient is known only roughly (differences), the true slope along
-//     d is below that accuracy. A wrong gradient makes f rise about as
-//     fast as it predicts a fall, and never passes. This is the ratio of
-//     actual to predicted reduction of trust-region methods (Nocedal &
-//     Wright 2006, eq. 4.4);
-//   - or the prediction itself, |t·∇fᵀd|, is below the rounding unit of
-//     f, u·|f(x)|: no change that small can show in floating point, so x
-//     is a minimizer to working precision (Dennis & Schnabel 1983, §7.2,
-//     relate the gradient test to the precision of f; recalled from
-//     memory).
-func watson6CGAnalyticFlatTrial(fx, ft, t, slope float64) bool {
-	predicted := watson6CGAnalyticAbs(t * slope)
-	return watson6CGAnalyticAbs(ft-fx) <= 0.5*predicted || predicted <= watson6CGAnalyticUnitRoundoff*watson6CGAnalyticAbs(fx)
 }
 
 // watson6CGAnalyticCurvatureMet is the strong Wolfe curvature condition

@@ -30,7 +30,7 @@ const usage = `usage:
   nadir check SPEC...   write nothing; exit 1 naming each missing or stale file
   nadir init OBJECTIVE [--out FILE]
                         write a starter spec for "Func" or "Type.Method" of the
-                        package in FILE's directory (default ./<objective>.toml)
+                        package in FILE's directory (default ./<objective_in_snake_case>.toml)
   nadir tune SPEC [--name NAME]
                         run every sensible direction × step rule from start, best first
   nadir trace SPEC [--name NAME] [--csv FILE] [--svg FILE]
@@ -121,7 +121,7 @@ func run(args []string, stdout, stderr io.Writer) int {
 func runInit(args []string, stdout, stderr io.Writer) int {
 	flags := pflag.NewFlagSet("nadir init", pflag.ContinueOnError)
 	flags.SetOutput(io.Discard)
-	out := flags.String("out", "", "spec file to write (default ./<objective>.toml)")
+	out := flags.String("out", "", "spec file to write (default ./<objective_in_snake_case>.toml)")
 	if err := flags.Parse(args); err != nil || flags.NArg() != 1 {
 		fmt.Fprintf(stderr, "nadir init: name one objective, \"Func\" or \"Type.Method\"\n%s", usage)
 		return 2

@@ -8,7 +8,7 @@ type CalibrateStatus uint8
 const (
 	// CalibrateGradientSmall: the largest gradient component fell to the gradient limit: converged.
 	CalibrateGradientSmall CalibrateStatus = iota + 1
-	// CalibrateStepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f while f was flat to the accuracy of the gradient (always so with finite differences): converged.
+	// CalibrateStepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f: converged.
 	CalibrateStepTiny
 	// CalibrateOutOfIterations: the iteration limit came first.
 	CalibrateOutOfIterations
@@ -20,7 +20,7 @@ const (
 	CalibrateNonFiniteStart
 	// CalibrateNonFiniteGradient: a gradient component became NaN or ±Inf.
 	CalibrateNonFiniteGradient
-	// CalibrateNoDecrease: no step longer than the step limit decreased f, and f rose about as fast as the analytic gradient said it would fall: the gradient is probably wrong (see the generated gradient test).
+	// CalibrateNoDecrease: no step longer than the step limit decreased f, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test).
 	CalibrateNoDecrease
 )
 
@@ -123,9 +123,8 @@ const (
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
 //  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged when
-//     f was flat along d or the gradient is a difference, else no
-//     decrease);
+//     steps shorter than the step limit are left to try (converged,
+//     unless f contradicts an analytic gradient: no decrease);
 //  5. move, refresh the gradient, let the direction learn from the step;
 //  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
 //
@@ -197,14 +196,15 @@ func calibrateMinimize(x0 [2]float64, lim CalibrateLimits) calibrateOutcome {
 			out.status = CalibrateNoAcceptableStep
 			return out
 		case calibrateSearchTiny:
-			// Converged to the step limit when f was flat along d to the
-			// accuracy available (see calibrateFlatTrial), and always with finite
-			// differences: their error, not the true slope, then steers d,
-			// so x is stationary to the accuracy of the differences. With
-			// an analytic gradient that f contradicts, it is not.
-			out.status = CalibrateNoDecrease
-			if found.flat || calibrateDerivativeCost > 0 {
-				out.status = CalibrateStepTiny
+			// Converged to the step limit: no step the step test would
+			// reject decreases f. Not so when an analytic gradient is
+			// contradicted by f rising in proportion to the step (see
+			// calibrateRiseTrend); with differences such a rise means their error,
+			// not the true slope, steers d, and x is stationary to the
+			// accuracy of the differences.
+			out.status = CalibrateStepTiny
+			if found.rising && calibrateDerivativeCost == 0 {
+				out.status = CalibrateNoDecrease
 			}
 			return out
 		}
@@ -410,10 +410,10 @@ func calibrateTinyStep(x, d *[2]float64, tol float64) float64 {
 func calibrateLineSearch(x *[2]float64, fx float64, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64) calibrateLineResult {
 	t := first
 	var previous, fPrevious float64
-	flat := false
+	var trend calibrateRiseTrend
 	for trial := 0; trial < calibrateStepTrials; trial++ {
 		if trial > 0 && t <= tiny {
-			return calibrateLineResult{calls: trial, flat: flat, end: calibrateTinyOrExhausted(calibrateFinite(fPrevious))}
+			return calibrateLineResult{calls: trial, rising: trend.contradicts(), end: calibrateTinyOrExhausted(calibrateFinite(fPrevious))}
 		}
 		if trial >= budget {
 			return calibrateLineResult{calls: trial, end: calibrateSearchOutOfBudget}
@@ -423,7 +423,7 @@ func calibrateLineSearch(x *[2]float64, fx float64, d *[2]float64, slope, first,
 		if calibrateFinite(ft) && calibrateAcceptable(fx, ft, t, slope) {
 			return calibrateLineResult{step: t, value: ft, calls: trial + 1, end: calibrateSearchAccepted}
 		}
-		flat = flat || calibrateFinite(ft) && calibrateFlatTrial(fx, ft, t, slope)
+		trend.add(t, ft-fx)
 		t, previous, fPrevious = calibrateBacktrackTrial(fx, slope, t, ft, previous, fPrevious), t, ft
 	}
 	return calibrateLineResult{calls: calibrateStepTrials, end: calibrateSearchExhausted}
@@ -435,12 +435,45 @@ type calibrateLineResult struct {
 	value    float64            // f(x + t·d)
 	calls    int                // objective calls spent, finite differences included
 	gradient bool               // whether gt holds ∇f(x + t·d) already
-	flat     bool               // whether a failed trial found f flat along d (see calibrateFlatTrial)
+	rising   bool               // whether the failed trials rose in proportion to t (see calibrateRiseTrend)
 	end      calibrateSearchEnd // how the search ended
 }
 
 // calibrateSearchEnd tells how a line search ended.
 type calibrateSearchEnd uint8
+
+// calibrateRiseTrend watches the failed trials of one line search, shortest last,
+// for the mark of a wrong gradient: f rising in proportion to the step,
+// f(x + t·d) − f(x) ≈ c·t with c > 0, so that the gradient's predicted
+// fall is contradicted at every scale. At a minimizer f instead rises
+// like t² (curvature) or changes by rounding noise that does not follow
+// t, and a search that finds no decrease there has converged. Three
+// consecutive pairs of trials whose rises agree with proportionality
+// within a factor of √2 make the trend; a trial that breaks it starts
+// over. This is the linear model's test at the heart of gradient checking
+// (Nocedal & Wright 2006, §8.1: a correct gradient makes the error of
+// f(x) + t·∇fᵀd shrink like t²).
+type calibrateRiseTrend struct {
+	step, rise float64 // the previous failed trial
+	linear     int     // consecutive proportional rises so far
+}
+
+// add records a failed trial t whose value changed f by rise (NaN or ±Inf
+// when the value was not finite).
+func (r *calibrateRiseTrend) add(t, rise float64) {
+	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
+	if rise > 0 && r.rise > 0 && ratio >= 0.7071 && ratio <= 1.4143 {
+		r.linear++
+	} else {
+		r.linear = 0
+	}
+	r.step, r.rise = t, rise
+}
+
+// contradicts reports whether the trials showed a proportional rise.
+func (r *calibrateRiseTrend) contradicts() bool {
+	return r.linear >= 3
+}
 
 // calibrateTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
@@ -480,27 +513,6 @@ func calibrateMoveTo(out, x *[2]float64, t float64, d *[2]float64) {
 //     Springer, 2006, §3.1 and §3.5.
 func calibrateAcceptable(fx, ft, t, slope float64) bool {
 	return ft <= fx+calibrateStepDecrease*t*slope // N&W eq. 3.4
-}
-
-// calibrateFlatTrial reports whether a failed trial t found f flat along d, to
-// the accuracy the gradient and f allow, so that no decrease can be
-// expected from any step:
-//
-//   - the change f(x + t·d) − f(x) = ft − fx is at most half the
-//     first-order prediction t·∇fᵀd in size: near a minimizer whose
-//     gradient is known only roughly (differences), the true slope along
-//     d is below that accuracy. A wrong gradient makes f rise about as
-//     fast as it predicts a fall, and never passes. This is the ratio of
-//     actual to predicted reduction of trust-region methods (Nocedal &
-//     Wright 2006, eq. 4.4);
-//   - or the prediction itself, |t·∇fᵀd|, is below the rounding unit of
-//     f, u·|f(x)|: no change that small can show in floating point, so x
-//     is a minimizer to working precision (Dennis & Schnabel 1983, §7.2,
-//     relate the gradient test to the precision of f; recalled from
-//     memory).
-func calibrateFlatTrial(fx, ft, t, slope float64) bool {
-	predicted := calibrateAbs(t * slope)
-	return calibrateAbs(ft-fx) <= 0.5*predicted || predicted <= calibrateUnitRoundoff*calibrateAbs(fx)
 }
 
 // calibrateBacktrackTrial is t·calibrateStepShrink (Nocedal & Wright 2006, Algorithm 3.1).

@@ -10,7 +10,7 @@ type MinBowlStatus uint8
 const (
 	// MinBowlGradientSmall: the largest gradient component fell to the gradient limit: converged.
 	MinBowlGradientSmall MinBowlStatus = iota + 1
-	// MinBowlStepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f while f was flat to the accuracy of the gradient (always so with finite differences): converged.
+	// MinBowlStepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f: converged.
 	MinBowlStepTiny
 	// MinBowlOutOfIterations: the iteration limit came first.
 	MinBowlOutOfIterations
@@ -22,7 +22,7 @@ const (
 	MinBowlNonFiniteStart
 	// MinBowlNonFiniteGradient: a gradient component became NaN or ±Inf.
 	MinBowlNonFiniteGradient
-	// MinBowlNoDecrease: no step longer than the step limit decreased f, and f rose about as fast as the analytic gradient said it would fall: the gradient is probably wrong (see the generated gradient test).
+	// MinBowlNoDecrease: no step longer than the step limit decreased f, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test).
 	MinBowlNoDecrease
 )
 
@@ -110,13 +110,12 @@ func MinBowlWithLimits(x0 [3]float32, limits MinBowlLimits) MinBowlResult {
 
 // Tunables of MinBowl from shapes.toml; the kernels below read them.
 const (
-	minBowlStepInitial    = 1.0                   // step.initial
-	minBowlStepDecrease   = 0.0001                // step.decrease (c1)
-	minBowlStepCurvature  = 0.1                   // step.curvature (c2)
-	minBowlStepTrials     = 40                    // step.trials
-	minBowlDerivativeCost = 3                     // objective calls per gradient
-	minBowlUnitRoundoff   = 5.960464477539063e-08 // unit roundoff u of the float type
-	minBowlForwardScale   = 0.000244140625        // √u, forward-difference step scale (Nocedal & Wright 2006, §8.1)
+	minBowlStepInitial    = 1.0            // step.initial
+	minBowlStepDecrease   = 0.0001         // step.decrease (c1)
+	minBowlStepCurvature  = 0.1            // step.curvature (c2)
+	minBowlStepTrials     = 40             // step.trials
+	minBowlDerivativeCost = 3              // objective calls per gradient
+	minBowlForwardScale   = 0.000244140625 // √u, forward-difference step scale (Nocedal & Wright 2006, §8.1)
 )
 
 // minBowlMinimize runs the descent loop from x0 within lim:
@@ -126,9 +125,8 @@ const (
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
 //  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged when
-//     f was flat along d or the gradient is a difference, else no
-//     decrease);
+//     steps shorter than the step limit are left to try (converged,
+//     unless f contradicts an analytic gradient: no decrease);
 //  5. move, refresh the gradient, let the direction learn from the step;
 //  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
 //
@@ -200,14 +198,15 @@ func minBowlMinimize(x0 [3]float32, lim MinBowlLimits) minBowlOutcome {
 			out.status = MinBowlNoAcceptableStep
 			return out
 		case minBowlSearchTiny:
-			// Converged to the step limit when f was flat along d to the
-			// accuracy available (see minBowlFlatTrial), and always with finite
-			// differences: their error, not the true slope, then steers d,
-			// so x is stationary to the accuracy of the differences. With
-			// an analytic gradient that f contradicts, it is not.
-			out.status = MinBowlNoDecrease
-			if found.flat || minBowlDerivativeCost > 0 {
-				out.status = MinBowlStepTiny
+			// Converged to the step limit: no step the step test would
+			// reject decreases f. Not so when an analytic gradient is
+			// contradicted by f rising in proportion to the step (see
+			// minBowlRiseTrend); with differences such a rise means their error,
+			// not the true slope, steers d, and x is stationary to the
+			// accuracy of the differences.
+			out.status = MinBowlStepTiny
+			if found.rising && minBowlDerivativeCost == 0 {
+				out.status = MinBowlNoDecrease
 			}
 			return out
 		}
@@ -438,7 +437,7 @@ func minBowlLineSearch(x *[3]float32, fx float32, d *[3]float32, slope, first, t
 	var high minBowlLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float32                                       // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	flat := false // whether a trial failing sufficient decrease found f flat
+	var trend minBowlRiseTrend // of the trials failing sufficient decrease
 	t := first
 	calls := 0
 	for trial := 0; trial < minBowlStepTrials; trial++ {
@@ -447,7 +446,7 @@ func minBowlLineSearch(x *[3]float32, fx float32, d *[3]float32, slope, first, t
 			// decreased f; else no step decreased f, unless f was not
 			// finite there.
 			if low.step == 0 {
-				return minBowlLineResult{calls: calls, flat: flat, end: minBowlTinyOrExhausted(minBowlFinite(high.value))}
+				return minBowlLineResult{calls: calls, rising: trend.contradicts(), end: minBowlTinyOrExhausted(minBowlFinite(high.value))}
 			}
 			return minBowlAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
 		}
@@ -460,7 +459,7 @@ func minBowlLineSearch(x *[3]float32, fx float32, d *[3]float32, slope, first, t
 		previous := low
 		if !minBowlFinite(current.value) || current.value > fx+minBowlStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			flat = flat || minBowlFinite(current.value) && minBowlFlatTrial(fx, current.value, t, slope)
+			trend.add(t, current.value-fx)
 		} else {
 			if calls+minBowlDerivativeCost > budget {
 				return minBowlLineResult{calls: calls, end: minBowlSearchOutOfBudget}
@@ -499,7 +498,7 @@ type minBowlLineResult struct {
 	value    float32          // f(x + t·d)
 	calls    int              // objective calls spent, finite differences included
 	gradient bool             // whether gt holds ∇f(x + t·d) already
-	flat     bool             // whether a failed trial found f flat along d (see minBowlFlatTrial)
+	rising   bool             // whether the failed trials rose in proportion to t (see minBowlRiseTrend)
 	end      minBowlSearchEnd // how the search ended
 }
 
@@ -511,6 +510,39 @@ type minBowlSearchEnd uint8
 type minBowlLinePoint struct {
 	step, value, slope float32
 	hasSlope           bool
+}
+
+// minBowlRiseTrend watches the failed trials of one line search, shortest last,
+// for the mark of a wrong gradient: f rising in proportion to the step,
+// f(x + t·d) − f(x) ≈ c·t with c > 0, so that the gradient's predicted
+// fall is contradicted at every scale. At a minimizer f instead rises
+// like t² (curvature) or changes by rounding noise that does not follow
+// t, and a search that finds no decrease there has converged. Three
+// consecutive pairs of trials whose rises agree with proportionality
+// within a factor of √2 make the trend; a trial that breaks it starts
+// over. This is the linear model's test at the heart of gradient checking
+// (Nocedal & Wright 2006, §8.1: a correct gradient makes the error of
+// f(x) + t·∇fᵀd shrink like t²).
+type minBowlRiseTrend struct {
+	step, rise float32 // the previous failed trial
+	linear     int     // consecutive proportional rises so far
+}
+
+// add records a failed trial t whose value changed f by rise (NaN or ±Inf
+// when the value was not finite).
+func (r *minBowlRiseTrend) add(t, rise float32) {
+	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
+	if rise > 0 && r.rise > 0 && ratio >= 0.7071 && ratio <= 1.4143 {
+		r.linear++
+	} else {
+		r.linear = 0
+	}
+	r.step, r.rise = t, rise
+}
+
+// contradicts reports whether the trials showed a proportional rise.
+func (r *minBowlRiseTrend) contradicts() bool {
+	return r.linear >= 3
 }
 
 // minBowlTinyOrExhausted ends a search that has run below the step limit: no
@@ -547,27 +579,6 @@ func minBowlMoveTo(out, x *[3]float32, t float32, d *[3]float32) {
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// minBowlFlatTrial reports whether a failed trial t found f flat along d, to
-// the accuracy the gradient and f allow, so that no decrease can be
-// expected from any step:
-//
-//   - the change f(x + t·d) − f(x) = ft − fx is at most half the
-//     first-order prediction t·∇fᵀd in size: near a minimizer whose
-//     gradient is known only roughly (differences), the true slope along
-//     d is below that accuracy. A wrong gradient makes f rise about as
-//     fast as it predicts a fall, and never passes. This is the ratio of
-//     actual to predicted reduction of trust-region methods (Nocedal &
-//     Wright 2006, eq. 4.4);
-//   - or the prediction itself, |t·∇fᵀd|, is below the rounding unit of
-//     f, u·|f(x)|: no change that small can show in floating point, so x
-//     is a minimizer to working precision (Dennis & Schnabel 1983, §7.2,
-//     relate the gradient test to the precision of f; recalled from
-//     memory).
-func minBowlFlatTrial(fx, ft, t, slope float32) bool {
-	predicted := minBowlAbs(t * slope)
-	return minBowlAbs(ft-fx) <= 0.5*predicted || predicted <= minBowlUnitRoundoff*minBowlAbs(fx)
 }
 
 // minBowlCurvatureMet is the strong Wolfe curvature condition

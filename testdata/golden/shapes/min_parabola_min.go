@@ -8,7 +8,7 @@ type MinParabolaStatus uint8
 const (
 	// MinParabolaGradientSmall: the largest gradient component fell to the gradient limit: converged.
 	MinParabolaGradientSmall MinParabolaStatus = iota + 1
-	// MinParabolaStepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f while f was flat to the accuracy of the gradient (always so with finite differences): converged.
+	// MinParabolaStepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f: converged.
 	MinParabolaStepTiny
 	// MinParabolaOutOfIterations: the iteration limit came first.
 	MinParabolaOutOfIterations
@@ -20,7 +20,7 @@ const (
 	MinParabolaNonFiniteStart
 	// MinParabolaNonFiniteGradient: a gradient component became NaN or ±Inf.
 	MinParabolaNonFiniteGradient
-	// MinParabolaNoDecrease: no step longer than the step limit decreased f, and f rose about as fast as the analytic gradient said it would fall: the gradient is probably wrong (see the generated gradient test).
+	// MinParabolaNoDecrease: no step longer than the step limit decreased f, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test).
 	MinParabolaNoDecrease
 )
 
@@ -124,9 +124,8 @@ const (
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
 //  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged when
-//     f was flat along d or the gradient is a difference, else no
-//     decrease);
+//     steps shorter than the step limit are left to try (converged,
+//     unless f contradicts an analytic gradient: no decrease);
 //  5. move, refresh the gradient, let the direction learn from the step;
 //  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
 //
@@ -198,14 +197,15 @@ func minParabolaMinimize(x0 [1]float64, lim MinParabolaLimits) minParabolaOutcom
 			out.status = MinParabolaNoAcceptableStep
 			return out
 		case minParabolaSearchTiny:
-			// Converged to the step limit when f was flat along d to the
-			// accuracy available (see minParabolaFlatTrial), and always with finite
-			// differences: their error, not the true slope, then steers d,
-			// so x is stationary to the accuracy of the differences. With
-			// an analytic gradient that f contradicts, it is not.
-			out.status = MinParabolaNoDecrease
-			if found.flat || minParabolaDerivativeCost > 0 {
-				out.status = MinParabolaStepTiny
+			// Converged to the step limit: no step the step test would
+			// reject decreases f. Not so when an analytic gradient is
+			// contradicted by f rising in proportion to the step (see
+			// minParabolaRiseTrend); with differences such a rise means their error,
+			// not the true slope, steers d, and x is stationary to the
+			// accuracy of the differences.
+			out.status = MinParabolaStepTiny
+			if found.rising && minParabolaDerivativeCost == 0 {
+				out.status = MinParabolaNoDecrease
 			}
 			return out
 		}
@@ -438,10 +438,10 @@ func minParabolaTinyStep(x, d *[1]float64, tol float64) float64 {
 func minParabolaLineSearch(x *[1]float64, fx float64, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64) minParabolaLineResult {
 	t := first
 	var previous, fPrevious float64
-	flat := false
+	var trend minParabolaRiseTrend
 	for trial := 0; trial < minParabolaStepTrials; trial++ {
 		if trial > 0 && t <= tiny {
-			return minParabolaLineResult{calls: trial, flat: flat, end: minParabolaTinyOrExhausted(minParabolaFinite(fPrevious))}
+			return minParabolaLineResult{calls: trial, rising: trend.contradicts(), end: minParabolaTinyOrExhausted(minParabolaFinite(fPrevious))}
 		}
 		if trial >= budget {
 			return minParabolaLineResult{calls: trial, end: minParabolaSearchOutOfBudget}
@@ -451,7 +451,7 @@ func minParabolaLineSearch(x *[1]float64, fx float64, d *[1]float64, slope, firs
 		if minParabolaFinite(ft) && minParabolaAcceptable(fx, ft, t, slope) {
 			return minParabolaLineResult{step: t, value: ft, calls: trial + 1, end: minParabolaSearchAccepted}
 		}
-		flat = flat || minParabolaFinite(ft) && minParabolaFlatTrial(fx, ft, t, slope)
+		trend.add(t, ft-fx)
 		t, previous, fPrevious = minParabolaBacktrackTrial(fx, slope, t, ft, previous, fPrevious), t, ft
 	}
 	return minParabolaLineResult{calls: minParabolaStepTrials, end: minParabolaSearchExhausted}
@@ -463,12 +463,45 @@ type minParabolaLineResult struct {
 	value    float64              // f(x + t·d)
 	calls    int                  // objective calls spent, finite differences included
 	gradient bool                 // whether gt holds ∇f(x + t·d) already
-	flat     bool                 // whether a failed trial found f flat along d (see minParabolaFlatTrial)
+	rising   bool                 // whether the failed trials rose in proportion to t (see minParabolaRiseTrend)
 	end      minParabolaSearchEnd // how the search ended
 }
 
 // minParabolaSearchEnd tells how a line search ended.
 type minParabolaSearchEnd uint8
+
+// minParabolaRiseTrend watches the failed trials of one line search, shortest last,
+// for the mark of a wrong gradient: f rising in proportion to the step,
+// f(x + t·d) − f(x) ≈ c·t with c > 0, so that the gradient's predicted
+// fall is contradicted at every scale. At a minimizer f instead rises
+// like t² (curvature) or changes by rounding noise that does not follow
+// t, and a search that finds no decrease there has converged. Three
+// consecutive pairs of trials whose rises agree with proportionality
+// within a factor of √2 make the trend; a trial that breaks it starts
+// over. This is the linear model's test at the heart of gradient checking
+// (Nocedal & Wright 2006, §8.1: a correct gradient makes the error of
+// f(x) + t·∇fᵀd shrink like t²).
+type minParabolaRiseTrend struct {
+	step, rise float64 // the previous failed trial
+	linear     int     // consecutive proportional rises so far
+}
+
+// add records a failed trial t whose value changed f by rise (NaN or ±Inf
+// when the value was not finite).
+func (r *minParabolaRiseTrend) add(t, rise float64) {
+	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
+	if rise > 0 && r.rise > 0 && ratio >= 0.7071 && ratio <= 1.4143 {
+		r.linear++
+	} else {
+		r.linear = 0
+	}
+	r.step, r.rise = t, rise
+}
+
+// contradicts reports whether the trials showed a proportional rise.
+func (r *minParabolaRiseTrend) contradicts() bool {
+	return r.linear >= 3
+}
 
 // minParabolaTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
@@ -508,27 +541,6 @@ func minParabolaMoveTo(out, x *[1]float64, t float64, d *[1]float64) {
 //     Springer, 2006, §3.1 and §3.5.
 func minParabolaAcceptable(fx, ft, t, slope float64) bool {
 	return ft <= fx+minParabolaStepDecrease*t*slope // N&W eq. 3.4
-}
-
-// minParabolaFlatTrial reports whether a failed trial t found f flat along d, to
-// the accuracy the gradient and f allow, so that no decrease can be
-// expected from any step:
-//
-//   - the change f(x + t·d) − f(x) = ft − fx is at most half the
-//     first-order prediction t·∇fᵀd in size: near a minimizer whose
-//     gradient is known only roughly (differences), the true slope along
-//     d is below that accuracy. A wrong gradient makes f rise about as
-//     fast as it predicts a fall, and never passes. This is the ratio of
-//     actual to predicted reduction of trust-region methods (Nocedal &
-//     Wright 2006, eq. 4.4);
-//   - or the prediction itself, |t·∇fᵀd|, is below the rounding unit of
-//     f, u·|f(x)|: no change that small can show in floating point, so x
-//     is a minimizer to working precision (Dennis & Schnabel 1983, §7.2,
-//     relate the gradient test to the precision of f; recalled from
-//     memory).
-func minParabolaFlatTrial(fx, ft, t, slope float64) bool {
-	predicted := minParabolaAbs(t * slope)
-	return minParabolaAbs(ft-fx) <= 0.5*predicted || predicted <= minParabolaUnitRoundoff*minParabolaAbs(fx)
 }
 
 // minParabolaBacktrackTrial is t·minParabolaStepShrink (Nocedal & Wright 2006, Algorithm 3.1).

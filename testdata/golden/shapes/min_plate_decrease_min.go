@@ -10,7 +10,7 @@ type MinPlateDecreaseStatus uint8
 const (
 	// MinPlateDecreaseGradientSmall: the largest gradient component fell to the gradient limit: converged.
 	MinPlateDecreaseGradientSmall MinPlateDecreaseStatus = iota + 1
-	// MinPlateDecreaseStepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f while f was flat to the accuracy of the gradient (always so with finite differences): converged.
+	// MinPlateDecreaseStepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f: converged.
 	MinPlateDecreaseStepTiny
 	// MinPlateDecreaseOutOfIterations: the iteration limit came first.
 	MinPlateDecreaseOutOfIterations
@@ -22,7 +22,7 @@ const (
 	MinPlateDecreaseNonFiniteStart
 	// MinPlateDecreaseNonFiniteGradient: a gradient component became NaN or ±Inf.
 	MinPlateDecreaseNonFiniteGradient
-	// MinPlateDecreaseNoDecrease: no step longer than the step limit decreased f, and f rose about as fast as the analytic gradient said it would fall: the gradient is probably wrong (see the generated gradient test).
+	// MinPlateDecreaseNoDecrease: no step longer than the step limit decreased f, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test).
 	MinPlateDecreaseNoDecrease
 )
 
@@ -110,12 +110,11 @@ func MinPlateDecreaseWithLimits(x0 [2]float32, limits MinPlateDecreaseLimits) Mi
 
 // Tunables of MinPlateDecrease from shapes.toml; the kernels below read them.
 const (
-	minPlateDecreaseStepInitial    = 1.0                   // step.initial
-	minPlateDecreaseStepShrink     = 0.5                   // step.shrink
-	minPlateDecreaseStepTrials     = 40                    // step.trials
-	minPlateDecreaseDerivativeCost = 4                     // objective calls per gradient
-	minPlateDecreaseUnitRoundoff   = 5.960464477539063e-08 // unit roundoff u of the float type
-	minPlateDecreaseCentralScale   = 0.00390625            // ∛u, central-difference step scale (Nocedal & Wright 2006, §8.1)
+	minPlateDecreaseStepInitial    = 1.0        // step.initial
+	minPlateDecreaseStepShrink     = 0.5        // step.shrink
+	minPlateDecreaseStepTrials     = 40         // step.trials
+	minPlateDecreaseDerivativeCost = 4          // objective calls per gradient
+	minPlateDecreaseCentralScale   = 0.00390625 // ∛u, central-difference step scale (Nocedal & Wright 2006, §8.1)
 )
 
 // minPlateDecreaseMinimize runs the descent loop from x0 within lim:
@@ -125,9 +124,8 @@ const (
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
 //  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged when
-//     f was flat along d or the gradient is a difference, else no
-//     decrease);
+//     steps shorter than the step limit are left to try (converged,
+//     unless f contradicts an analytic gradient: no decrease);
 //  5. move, refresh the gradient, let the direction learn from the step;
 //  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
 //
@@ -199,14 +197,15 @@ func minPlateDecreaseMinimize(x0 [2]float32, lim MinPlateDecreaseLimits) minPlat
 			out.status = MinPlateDecreaseNoAcceptableStep
 			return out
 		case minPlateDecreaseSearchTiny:
-			// Converged to the step limit when f was flat along d to the
-			// accuracy available (see minPlateDecreaseFlatTrial), and always with finite
-			// differences: their error, not the true slope, then steers d,
-			// so x is stationary to the accuracy of the differences. With
-			// an analytic gradient that f contradicts, it is not.
-			out.status = MinPlateDecreaseNoDecrease
-			if found.flat || minPlateDecreaseDerivativeCost > 0 {
-				out.status = MinPlateDecreaseStepTiny
+			// Converged to the step limit: no step the step test would
+			// reject decreases f. Not so when an analytic gradient is
+			// contradicted by f rising in proportion to the step (see
+			// minPlateDecreaseRiseTrend); with differences such a rise means their error,
+			// not the true slope, steers d, and x is stationary to the
+			// accuracy of the differences.
+			out.status = MinPlateDecreaseStepTiny
+			if found.rising && minPlateDecreaseDerivativeCost == 0 {
+				out.status = MinPlateDecreaseNoDecrease
 			}
 			return out
 		}
@@ -394,10 +393,10 @@ func minPlateDecreaseTinyStep(x, d *[2]float32, tol float32) float32 {
 func minPlateDecreaseLineSearch(x *[2]float32, fx float32, d *[2]float32, slope, first, tiny float32, budget int, xt, gt *[2]float32) minPlateDecreaseLineResult {
 	t := first
 	var previous, fPrevious float32
-	flat := false
+	var trend minPlateDecreaseRiseTrend
 	for trial := 0; trial < minPlateDecreaseStepTrials; trial++ {
 		if trial > 0 && t <= tiny {
-			return minPlateDecreaseLineResult{calls: trial, flat: flat, end: minPlateDecreaseTinyOrExhausted(minPlateDecreaseFinite(fPrevious))}
+			return minPlateDecreaseLineResult{calls: trial, rising: trend.contradicts(), end: minPlateDecreaseTinyOrExhausted(minPlateDecreaseFinite(fPrevious))}
 		}
 		if trial >= budget {
 			return minPlateDecreaseLineResult{calls: trial, end: minPlateDecreaseSearchOutOfBudget}
@@ -407,7 +406,7 @@ func minPlateDecreaseLineSearch(x *[2]float32, fx float32, d *[2]float32, slope,
 		if minPlateDecreaseFinite(ft) && minPlateDecreaseAcceptable(fx, ft, t, slope) {
 			return minPlateDecreaseLineResult{step: t, value: ft, calls: trial + 1, end: minPlateDecreaseSearchAccepted}
 		}
-		flat = flat || minPlateDecreaseFinite(ft) && minPlateDecreaseFlatTrial(fx, ft, t, slope)
+		trend.add(t, ft-fx)
 		t, previous, fPrevious = minPlateDecreaseBacktrackTrial(fx, slope, t, ft, previous, fPrevious), t, ft
 	}
 	return minPlateDecreaseLineResult{calls: minPlateDecreaseStepTrials, end: minPlateDecreaseSearchExhausted}
@@ -419,12 +418,45 @@ type minPlateDecreaseLineResult struct {
 	value    float32                   // f(x + t·d)
 	calls    int                       // objective calls spent, finite differences included
 	gradient bool                      // whether gt holds ∇f(x + t·d) already
-	flat     bool                      // whether a failed trial found f flat along d (see minPlateDecreaseFlatTrial)
+	rising   bool                      // whether the failed trials rose in proportion to t (see minPlateDecreaseRiseTrend)
 	end      minPlateDecreaseSearchEnd // how the search ended
 }
 
 // minPlateDecreaseSearchEnd tells how a line search ended.
 type minPlateDecreaseSearchEnd uint8
+
+// minPlateDecreaseRiseTrend watches the failed trials of one line search, shortest last,
+// for the mark of a wrong gradient: f rising in proportion to the step,
+// f(x + t·d) − f(x) ≈ c·t with c > 0, so that the gradient's predicted
+// fall is contradicted at every scale. At a minimizer f instead rises
+// like t² (curvature) or changes by rounding noise that does not follow
+// t, and a search that finds no decrease there has converged. Three
+// consecutive pairs of trials whose rises agree with proportionality
+// within a factor of √2 make the trend; a trial that breaks it starts
+// over. This is the linear model's test at the heart of gradient checking
+// (Nocedal & Wright 2006, §8.1: a correct gradient makes the error of
+// f(x) + t·∇fᵀd shrink like t²).
+type minPlateDecreaseRiseTrend struct {
+	step, rise float32 // the previous failed trial
+	linear     int     // consecutive proportional rises so far
+}
+
+// add records a failed trial t whose value changed f by rise (NaN or ±Inf
+// when the value was not finite).
+func (r *minPlateDecreaseRiseTrend) add(t, rise float32) {
+	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
+	if rise > 0 && r.rise > 0 && ratio >= 0.7071 && ratio <= 1.4143 {
+		r.linear++
+	} else {
+		r.linear = 0
+	}
+	r.step, r.rise = t, rise
+}
+
+// contradicts reports whether the trials showed a proportional rise.
+func (r *minPlateDecreaseRiseTrend) contradicts() bool {
+	return r.linear >= 3
+}
 
 // minPlateDecreaseTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
@@ -456,27 +488,6 @@ func minPlateDecreaseMoveTo(out, x *[2]float32, t float32, d *[2]float32) {
 // around Fig. 3.2), which is why armijoDecrease exists.
 func minPlateDecreaseAcceptable(fx, ft, t, slope float32) bool {
 	return ft < fx
-}
-
-// minPlateDecreaseFlatTrial reports whether a failed trial t found f flat along d, to
-// the accuracy the gradient and f allow, so that no decrease can be
-// expected from any step:
-//
-//   - the change f(x + t·d) − f(x) = ft − fx is at most half the
-//     first-order prediction t·∇fᵀd in size: near a minimizer whose
-//     gradient is known only roughly (differences), the true slope along
-//     d is below that accuracy. A wrong gradient makes f rise about as
-//     fast as it predicts a fall, and never passes. This is the ratio of
-//     actual to predicted reduction of trust-region methods (Nocedal &
-//     Wright 2006, eq. 4.4);
-//   - or the prediction itself, |t·∇fᵀd|, is below the rounding unit of
-//     f, u·|f(x)|: no change that small can show in floating point, so x
-//     is a minimizer to working precision (Dennis & Schnabel 1983, §7.2,
-//     relate the gradient test to the precision of f; recalled from
-//     memory).
-func minPlateDecreaseFlatTrial(fx, ft, t, slope float32) bool {
-	predicted := minPlateDecreaseAbs(t * slope)
-	return minPlateDecreaseAbs(ft-fx) <= 0.5*predicted || predicted <= minPlateDecreaseUnitRoundoff*minPlateDecreaseAbs(fx)
 }
 
 // minPlateDecreaseBacktrackTrial minimizes a model of φ(t) = f(x + t·d) built from what

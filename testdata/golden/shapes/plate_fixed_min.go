@@ -8,7 +8,7 @@ type MinPlateStatus uint8
 const (
 	// MinPlateGradientSmall: the largest gradient component fell to the gradient limit: converged.
 	MinPlateGradientSmall MinPlateStatus = iota + 1
-	// MinPlateStepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f while f was flat to the accuracy of the gradient (always so with finite differences): converged.
+	// MinPlateStepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f: converged.
 	MinPlateStepTiny
 	// MinPlateOutOfIterations: the iteration limit came first.
 	MinPlateOutOfIterations
@@ -20,7 +20,7 @@ const (
 	MinPlateNonFiniteStart
 	// MinPlateNonFiniteGradient: a gradient component became NaN or ±Inf.
 	MinPlateNonFiniteGradient
-	// MinPlateNoDecrease: no step longer than the step limit decreased f, and f rose about as fast as the analytic gradient said it would fall: the gradient is probably wrong (see the generated gradient test).
+	// MinPlateNoDecrease: no step longer than the step limit decreased f, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test).
 	MinPlateNoDecrease
 )
 
@@ -119,9 +119,8 @@ const (
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
 //  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged when
-//     f was flat along d or the gradient is a difference, else no
-//     decrease);
+//     steps shorter than the step limit are left to try (converged,
+//     unless f contradicts an analytic gradient: no decrease);
 //  5. move, refresh the gradient, let the direction learn from the step;
 //  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
 //
@@ -193,14 +192,15 @@ func minPlateMinimize(x0 [2]float32, lim MinPlateLimits) minPlateOutcome {
 			out.status = MinPlateNoAcceptableStep
 			return out
 		case minPlateSearchTiny:
-			// Converged to the step limit when f was flat along d to the
-			// accuracy available (see flatTrial), and always with finite
-			// differences: their error, not the true slope, then steers d,
-			// so x is stationary to the accuracy of the differences. With
-			// an analytic gradient that f contradicts, it is not.
-			out.status = MinPlateNoDecrease
-			if found.flat || minPlateDerivativeCost > 0 {
-				out.status = MinPlateStepTiny
+			// Converged to the step limit: no step the step test would
+			// reject decreases f. Not so when an analytic gradient is
+			// contradicted by f rising in proportion to the step (see
+			// riseTrend); with differences such a rise means their error,
+			// not the true slope, steers d, and x is stationary to the
+			// accuracy of the differences.
+			out.status = MinPlateStepTiny
+			if found.rising && minPlateDerivativeCost == 0 {
+				out.status = MinPlateNoDecrease
 			}
 			return out
 		}
@@ -377,7 +377,7 @@ type minPlateLineResult struct {
 	value    float32           // f(x + t·d)
 	calls    int               // objective calls spent, finite differences included
 	gradient bool              // whether gt holds ∇f(x + t·d) already
-	flat     bool              // whether a failed trial found f flat along d (see flatTrial)
+	rising   bool              // whether the failed trials rose in proportion to t (see riseTrend)
 	end      minPlateSearchEnd // how the search ended
 }
 
