@@ -44,6 +44,21 @@ func WriteStarter(w io.Writer, dir, ref string) error {
 	if shape.Arg == ArgSlice {
 		dim = 2
 	}
+	// The default direction, or the first that fits on the stack.
+	direction := ""
+	for _, d := range []string{rules.DefaultDirection, "lbfgs", "cg"} {
+		var scratch Problems
+		sized := shape
+		sized.Dim = dim
+		checkStackSize(&Minimizer{Direction: d, Memory: int(rules.Memory.Default)}, sized, &positions{keys: map[string]Pos{}, values: map[string]Pos{}}, &scratch)
+		if len(scratch) == 0 {
+			direction = d
+			break
+		}
+	}
+	if direction == "" {
+		return Problems{{lp.position(fn.Pos()), fmt.Sprintf("objective %s has %d unknowns: no direction's state fits in the %d bytes Go keeps on the stack, so no minimizer could avoid allocating", ref, dim, maxStackVariable)}}
+	}
 
 	// An analytic gradient named after the objective, when one fits.
 	m := &Minimizer{Derivative: "analytic"}
@@ -100,7 +115,11 @@ func WriteStarter(w io.Writer, dir, ref string) error {
 	} else {
 		kv("derivative", fmt.Sprintf("%q", rules.DefaultDerivative), `"analytic" (then set gradient) | "forward" | "central"`)
 	}
-	kv("direction", fmt.Sprintf("%q", rules.DefaultDirection), `"steepest" | "bfgs" | "lbfgs" | "cg"`)
+	directionNote := `"steepest" | "bfgs" | "lbfgs" | "cg"`
+	if direction != rules.DefaultDirection {
+		directionNote += "; " + rules.DefaultDirection + " would not fit on the stack"
+	}
+	kv("direction", fmt.Sprintf("%q", direction), directionNote)
 	kv("# memory", fmt.Sprint(rules.Memory.Default), "lbfgs only: correction pairs kept, "+rules.Memory.Range())
 	if shape.Scalar() {
 		kv("start", "0.0", "a typical starting point: replace with yours")

@@ -499,6 +499,18 @@ func (p *Plant) CostGrad(x, g *[2]float64) {
 	if got, _ := os.ReadFile("gain.toml"); code != 2 || string(got) != "# mine\n" || !strings.Contains(stderr, "gain.toml:1:1: refusing to overwrite") {
 		t.Errorf("init over an existing file exited %d and left %q:\n%s", code, got, stderr)
 	}
+	// Too many unknowns for bfgs's matrix on the stack: init proposes
+	// lbfgs, and refuses when not even a vector fits.
+	writeFile(t, "big.go", "package quickstart\n\nfunc Wide(x *[200]float64) float64 { return x[0] * x[0] }\n\nfunc Huge(x *[20000]float64) float64 { return x[0] * x[0] }\n")
+	if code, _, stderr := nadir("init", "Wide"); code != 0 {
+		t.Fatalf("init Wide exited %d:\n%s", code, stderr)
+	}
+	if data, _ := os.ReadFile("wide.toml"); !strings.Contains(string(data), `direction = "lbfgs"`) {
+		t.Errorf("init for 200 unknowns does not propose lbfgs:\n%s", data)
+	}
+	if code, _, stderr := nadir("init", "Huge"); code != 2 || !strings.Contains(stderr, "big.go:5:6: objective Huge has 20000 unknowns") {
+		t.Errorf("init for 20000 unknowns exited %d:\n%s", code, stderr)
+	}
 	if code, _, stderr := nadir("init", "NoSuchFunc"); code != 2 || !strings.Contains(stderr, "objective NoSuchFunc: no such function") {
 		t.Errorf("init of a missing objective exited %d:\n%s", code, stderr)
 	}
@@ -514,6 +526,8 @@ func TestTrace(t *testing.T) {
 	if code, _, stderr := nadir("gen", "quickstart.toml"); code != 0 {
 		t.Fatalf("gen exited %d:\n%s", code, stderr)
 	}
+	// The package's own tests do not even compile: trace leaves them out.
+	writeFile(t, "broken_test.go", "package quickstart\n\nfunc TestBroken() { nope }\n")
 	before := snapshot(t, ".")
 	csvPath := filepath.Join(t.TempDir(), "calibrate.csv")
 	svgPath := filepath.Join(t.TempDir(), "calibrate.svg")
