@@ -46,7 +46,7 @@ func WriteStarter(w io.Writer, dir, ref string) error {
 	}
 	// The default direction, or the first that fits on the stack.
 	direction := ""
-	for _, d := range []string{rules.DefaultDirection, "lbfgs", "cg"} {
+	for _, d := range []string{rules.DefaultDirection, "lbfgs", "cg", "steepest"} {
 		var scratch Problems
 		sized := shape
 		sized.Dim = dim

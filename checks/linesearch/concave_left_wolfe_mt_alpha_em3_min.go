@@ -110,11 +110,12 @@ func ConcaveLeftWolfeMTAlphaEm3WithLimits(x0 float64, limits ConcaveLeftWolfeMTA
 
 // Tunables of ConcaveLeftWolfeMTAlphaEm3 from linesearch.toml; the kernels below read them.
 const (
-	concaveLeftWolfeMTAlphaEm3StepInitial    = 1958.020050125313 // step.initial
-	concaveLeftWolfeMTAlphaEm3StepDecrease   = 0.01              // step.decrease (c1)
-	concaveLeftWolfeMTAlphaEm3StepCurvature  = 0.1               // step.curvature (c2)
-	concaveLeftWolfeMTAlphaEm3StepTrials     = 40                // step.trials
-	concaveLeftWolfeMTAlphaEm3DerivativeCost = 0                 // objective calls per gradient
+	concaveLeftWolfeMTAlphaEm3StepInitial    = 1958.020050125313      // step.initial
+	concaveLeftWolfeMTAlphaEm3StepDecrease   = 0.01                   // step.decrease (c1)
+	concaveLeftWolfeMTAlphaEm3StepCurvature  = 0.1                    // step.curvature (c2)
+	concaveLeftWolfeMTAlphaEm3StepTrials     = 40                     // step.trials
+	concaveLeftWolfeMTAlphaEm3DerivativeCost = 0                      // objective calls per gradient
+	concaveLeftWolfeMTAlphaEm3UnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
 )
 
 // concaveLeftWolfeMTAlphaEm3Minimize runs the descent loop from x0 within lim:
@@ -408,7 +409,7 @@ func concaveLeftWolfeMTAlphaEm3LineSearch(x *[1]float64, fx float64, d *[1]float
 		previous := low
 		if !concaveLeftWolfeMTAlphaEm3Finite(current.value) || current.value > fx+concaveLeftWolfeMTAlphaEm3StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx)
+			trend.add(t, current.value-fx, fx, concaveLeftWolfeMTAlphaEm3FaithfulStep(x, xt, d, t))
 		} else {
 			if calls+concaveLeftWolfeMTAlphaEm3DerivativeCost > budget {
 				return concaveLeftWolfeMTAlphaEm3LineResult{calls: calls, end: concaveLeftWolfeMTAlphaEm3SearchOutOfBudget}
@@ -466,32 +467,45 @@ type concaveLeftWolfeMTAlphaEm3LinePoint struct {
 // f(x + t·d) − f(x) ≈ c·t with c > 0, so that the gradient's predicted
 // fall is contradicted at every scale. At a minimizer f instead rises
 // like t² (curvature) or changes by rounding noise that does not follow
-// t, and a search that finds no decrease there has converged. Three
-// consecutive pairs of trials whose rises agree with proportionality
-// within a factor of √2 make the trend; a trial that breaks it starts
-// over. This is the linear model's test at the heart of gradient checking
-// (Nocedal & Wright 2006, §8.1: a correct gradient makes the error of
-// f(x) + t·∇fᵀd shrink like t²).
+// t, and a search that finds no decrease there has converged. This is the
+// linear model's test at the heart of gradient checking (Nocedal & Wright
+// 2006, §8.1: with a correct gradient the error of f(x) + t·∇fᵀd shrinks
+// like t²). The rules, tuned on wrong and exact gradients (common
+// practice, no published source):
+//
+//   - a pair of trials agrees with proportionality when both rises are
+//     positive and (Δf₁/Δf₂)/(t₁/t₂) lies within a factor √2 of 1;
+//   - three agreeing pairs at the end of the search, or five anywhere in
+//     a row, make the trend; a disagreeing pair starts over;
+//   - a trial is left out when the step actually taken is not t·d (a
+//     component too large to move by t·dᵢ in floating point), or when its
+//     change is within 64 rounding units of f(x), where only noise shows.
 type concaveLeftWolfeMTAlphaEm3RiseTrend struct {
-	step, rise float64 // the previous failed trial
+	step, rise float64 // the previous counted trial
 	linear     int     // consecutive proportional rises so far
+	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t whose value changed f by rise (NaN or ±Inf
-// when the value was not finite).
-func (r *concaveLeftWolfeMTAlphaEm3RiseTrend) add(t, rise float64) {
+// add records a failed trial t that changed f(x) = fx by rise (NaN or
+// ±Inf when the value was not finite); faithful says whether the step
+// actually taken was t·d.
+func (r *concaveLeftWolfeMTAlphaEm3RiseTrend) add(t, rise, fx float64, faithful bool) {
+	if !faithful || concaveLeftWolfeMTAlphaEm3Abs(rise) <= 64*concaveLeftWolfeMTAlphaEm3UnitRoundoff*concaveLeftWolfeMTAlphaEm3Abs(fx) {
+		return
+	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
 	if rise > 0 && r.rise > 0 && ratio >= 0.7071 && ratio <= 1.4143 {
 		r.linear++
 	} else {
 		r.linear = 0
 	}
+	r.latched = r.latched || r.linear >= 5
 	r.step, r.rise = t, rise
 }
 
 // contradicts reports whether the trials showed a proportional rise.
 func (r *concaveLeftWolfeMTAlphaEm3RiseTrend) contradicts() bool {
-	return r.linear >= 3
+	return r.latched || r.linear >= 3
 }
 
 // concaveLeftWolfeMTAlphaEm3TinyOrExhausted ends a search that has run below the step limit: no
@@ -528,6 +542,17 @@ func concaveLeftWolfeMTAlphaEm3MoveTo(out, x *[1]float64, t float64, d *[1]float
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
+}
+
+// concaveLeftWolfeMTAlphaEm3FaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func concaveLeftWolfeMTAlphaEm3FaithfulStep(x, xt, d *[1]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(concaveLeftWolfeMTAlphaEm3Abs(xt[i]-x[i]-want) <= 0.01*concaveLeftWolfeMTAlphaEm3Abs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // concaveLeftWolfeMTAlphaEm3CurvatureMet is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)

@@ -110,12 +110,13 @@ func RosenbrockCGCentralWithLimits(x0 [2]float64, limits RosenbrockCGCentralLimi
 
 // Tunables of RosenbrockCGCentral from mgh.toml; the kernels below read them.
 const (
-	rosenbrockCGCentralStepInitial    = 1.0                   // step.initial
-	rosenbrockCGCentralStepDecrease   = 0.0001                // step.decrease (c1)
-	rosenbrockCGCentralStepCurvature  = 0.1                   // step.curvature (c2)
-	rosenbrockCGCentralStepTrials     = 40                    // step.trials
-	rosenbrockCGCentralDerivativeCost = 4                     // objective calls per gradient
-	rosenbrockCGCentralCentralScale   = 4.806217383937352e-06 // ∛u, central-difference step scale (Nocedal & Wright 2006, §8.1)
+	rosenbrockCGCentralStepInitial    = 1.0                    // step.initial
+	rosenbrockCGCentralStepDecrease   = 0.0001                 // step.decrease (c1)
+	rosenbrockCGCentralStepCurvature  = 0.1                    // step.curvature (c2)
+	rosenbrockCGCentralStepTrials     = 40                     // step.trials
+	rosenbrockCGCentralDerivativeCost = 4                      // objective calls per gradient
+	rosenbrockCGCentralUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
+	rosenbrockCGCentralCentralScale   = 4.806217383937352e-06  // ∛u, central-difference step scale (Nocedal & Wright 2006, §8.1)
 )
 
 // rosenbrockCGCentralMinimize runs the descent loop from x0 within lim:
@@ -463,7 +464,7 @@ func rosenbrockCGCentralLineSearch(x *[2]float64, fx float64, d *[2]float64, slo
 		previous := low
 		if !rosenbrockCGCentralFinite(current.value) || current.value > fx+rosenbrockCGCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx)
+			trend.add(t, current.value-fx, fx, rosenbrockCGCentralFaithfulStep(x, xt, d, t))
 		} else {
 			if calls+rosenbrockCGCentralDerivativeCost > budget {
 				return rosenbrockCGCentralLineResult{calls: calls, end: rosenbrockCGCentralSearchOutOfBudget}
@@ -521,32 +522,45 @@ type rosenbrockCGCentralLinePoint struct {
 // f(x + t·d) − f(x) ≈ c·t with c > 0, so that the gradient's predicted
 // fall is contradicted at every scale. At a minimizer f instead rises
 // like t² (curvature) or changes by rounding noise that does not follow
-// t, and a search that finds no decrease there has converged. Three
-// consecutive pairs of trials whose rises agree with proportionality
-// within a factor of √2 make the trend; a trial that breaks it starts
-// over. This is the linear model's test at the heart of gradient checking
-// (Nocedal & Wright 2006, §8.1: a correct gradient makes the error of
-// f(x) + t·∇fᵀd shrink like t²).
+// t, and a search that finds no decrease there has converged. This is the
+// linear model's test at the heart of gradient checking (Nocedal & Wright
+// 2006, §8.1: with a correct gradient the error of f(x) + t·∇fᵀd shrinks
+// like t²). The rules, tuned on wrong and exact gradients (common
+// practice, no published source):
+//
+//   - a pair of trials agrees with proportionality when both rises are
+//     positive and (Δf₁/Δf₂)/(t₁/t₂) lies within a factor √2 of 1;
+//   - three agreeing pairs at the end of the search, or five anywhere in
+//     a row, make the trend; a disagreeing pair starts over;
+//   - a trial is left out when the step actually taken is not t·d (a
+//     component too large to move by t·dᵢ in floating point), or when its
+//     change is within 64 rounding units of f(x), where only noise shows.
 type rosenbrockCGCentralRiseTrend struct {
-	step, rise float64 // the previous failed trial
+	step, rise float64 // the previous counted trial
 	linear     int     // consecutive proportional rises so far
+	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t whose value changed f by rise (NaN or ±Inf
-// when the value was not finite).
-func (r *rosenbrockCGCentralRiseTrend) add(t, rise float64) {
+// add records a failed trial t that changed f(x) = fx by rise (NaN or
+// ±Inf when the value was not finite); faithful says whether the step
+// actually taken was t·d.
+func (r *rosenbrockCGCentralRiseTrend) add(t, rise, fx float64, faithful bool) {
+	if !faithful || rosenbrockCGCentralAbs(rise) <= 64*rosenbrockCGCentralUnitRoundoff*rosenbrockCGCentralAbs(fx) {
+		return
+	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
 	if rise > 0 && r.rise > 0 && ratio >= 0.7071 && ratio <= 1.4143 {
 		r.linear++
 	} else {
 		r.linear = 0
 	}
+	r.latched = r.latched || r.linear >= 5
 	r.step, r.rise = t, rise
 }
 
 // contradicts reports whether the trials showed a proportional rise.
 func (r *rosenbrockCGCentralRiseTrend) contradicts() bool {
-	return r.linear >= 3
+	return r.latched || r.linear >= 3
 }
 
 // rosenbrockCGCentralTinyOrExhausted ends a search that has run below the step limit: no
@@ -583,6 +597,17 @@ func rosenbrockCGCentralMoveTo(out, x *[2]float64, t float64, d *[2]float64) {
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
+}
+
+// rosenbrockCGCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func rosenbrockCGCentralFaithfulStep(x, xt, d *[2]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(rosenbrockCGCentralAbs(xt[i]-x[i]-want) <= 0.01*rosenbrockCGCentralAbs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // rosenbrockCGCentralCurvatureMet is the strong Wolfe curvature condition

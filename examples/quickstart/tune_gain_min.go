@@ -451,7 +451,7 @@ func tuneGainLineSearch(x *[1]float64, fx float64, d *[1]float64, slope, first, 
 		if tuneGainFinite(ft) && tuneGainAcceptable(fx, ft, t, slope) {
 			return tuneGainLineResult{step: t, value: ft, calls: trial + 1, end: tuneGainSearchAccepted}
 		}
-		trend.add(t, ft-fx)
+		trend.add(t, ft-fx, fx, tuneGainFaithfulStep(x, xt, d, t))
 		t, previous, fPrevious = tuneGainBacktrackTrial(fx, slope, t, ft, previous, fPrevious), t, ft
 	}
 	return tuneGainLineResult{calls: tuneGainStepTrials, end: tuneGainSearchExhausted}
@@ -475,32 +475,45 @@ type tuneGainSearchEnd uint8
 // f(x + t·d) − f(x) ≈ c·t with c > 0, so that the gradient's predicted
 // fall is contradicted at every scale. At a minimizer f instead rises
 // like t² (curvature) or changes by rounding noise that does not follow
-// t, and a search that finds no decrease there has converged. Three
-// consecutive pairs of trials whose rises agree with proportionality
-// within a factor of √2 make the trend; a trial that breaks it starts
-// over. This is the linear model's test at the heart of gradient checking
-// (Nocedal & Wright 2006, §8.1: a correct gradient makes the error of
-// f(x) + t·∇fᵀd shrink like t²).
+// t, and a search that finds no decrease there has converged. This is the
+// linear model's test at the heart of gradient checking (Nocedal & Wright
+// 2006, §8.1: with a correct gradient the error of f(x) + t·∇fᵀd shrinks
+// like t²). The rules, tuned on wrong and exact gradients (common
+// practice, no published source):
+//
+//   - a pair of trials agrees with proportionality when both rises are
+//     positive and (Δf₁/Δf₂)/(t₁/t₂) lies within a factor √2 of 1;
+//   - three agreeing pairs at the end of the search, or five anywhere in
+//     a row, make the trend; a disagreeing pair starts over;
+//   - a trial is left out when the step actually taken is not t·d (a
+//     component too large to move by t·dᵢ in floating point), or when its
+//     change is within 64 rounding units of f(x), where only noise shows.
 type tuneGainRiseTrend struct {
-	step, rise float64 // the previous failed trial
+	step, rise float64 // the previous counted trial
 	linear     int     // consecutive proportional rises so far
+	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t whose value changed f by rise (NaN or ±Inf
-// when the value was not finite).
-func (r *tuneGainRiseTrend) add(t, rise float64) {
+// add records a failed trial t that changed f(x) = fx by rise (NaN or
+// ±Inf when the value was not finite); faithful says whether the step
+// actually taken was t·d.
+func (r *tuneGainRiseTrend) add(t, rise, fx float64, faithful bool) {
+	if !faithful || tuneGainAbs(rise) <= 64*tuneGainUnitRoundoff*tuneGainAbs(fx) {
+		return
+	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
 	if rise > 0 && r.rise > 0 && ratio >= 0.7071 && ratio <= 1.4143 {
 		r.linear++
 	} else {
 		r.linear = 0
 	}
+	r.latched = r.latched || r.linear >= 5
 	r.step, r.rise = t, rise
 }
 
 // contradicts reports whether the trials showed a proportional rise.
 func (r *tuneGainRiseTrend) contradicts() bool {
-	return r.linear >= 3
+	return r.latched || r.linear >= 3
 }
 
 // tuneGainTinyOrExhausted ends a search that has run below the step limit: no
@@ -541,6 +554,17 @@ func tuneGainMoveTo(out, x *[1]float64, t float64, d *[1]float64) {
 //     Springer, 2006, §3.1 and §3.5.
 func tuneGainAcceptable(fx, ft, t, slope float64) bool {
 	return ft <= fx+tuneGainStepDecrease*t*slope // N&W eq. 3.4
+}
+
+// tuneGainFaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func tuneGainFaithfulStep(x, xt, d *[1]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(tuneGainAbs(xt[i]-x[i]-want) <= 0.01*tuneGainAbs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // tuneGainBacktrackTrial is t·tuneGainStepShrink (Nocedal & Wright 2006, Algorithm 3.1).

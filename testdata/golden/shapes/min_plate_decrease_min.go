@@ -110,11 +110,12 @@ func MinPlateDecreaseWithLimits(x0 [2]float32, limits MinPlateDecreaseLimits) Mi
 
 // Tunables of MinPlateDecrease from shapes.toml; the kernels below read them.
 const (
-	minPlateDecreaseStepInitial    = 1.0        // step.initial
-	minPlateDecreaseStepShrink     = 0.5        // step.shrink
-	minPlateDecreaseStepTrials     = 40         // step.trials
-	minPlateDecreaseDerivativeCost = 4          // objective calls per gradient
-	minPlateDecreaseCentralScale   = 0.00390625 // ∛u, central-difference step scale (Nocedal & Wright 2006, §8.1)
+	minPlateDecreaseStepInitial    = 1.0                   // step.initial
+	minPlateDecreaseStepShrink     = 0.5                   // step.shrink
+	minPlateDecreaseStepTrials     = 40                    // step.trials
+	minPlateDecreaseDerivativeCost = 4                     // objective calls per gradient
+	minPlateDecreaseUnitRoundoff   = 5.960464477539063e-08 // unit roundoff u of the float type
+	minPlateDecreaseCentralScale   = 0.00390625            // ∛u, central-difference step scale (Nocedal & Wright 2006, §8.1)
 )
 
 // minPlateDecreaseMinimize runs the descent loop from x0 within lim:
@@ -406,7 +407,7 @@ func minPlateDecreaseLineSearch(x *[2]float32, fx float32, d *[2]float32, slope,
 		if minPlateDecreaseFinite(ft) && minPlateDecreaseAcceptable(fx, ft, t, slope) {
 			return minPlateDecreaseLineResult{step: t, value: ft, calls: trial + 1, end: minPlateDecreaseSearchAccepted}
 		}
-		trend.add(t, ft-fx)
+		trend.add(t, ft-fx, fx, minPlateDecreaseFaithfulStep(x, xt, d, t))
 		t, previous, fPrevious = minPlateDecreaseBacktrackTrial(fx, slope, t, ft, previous, fPrevious), t, ft
 	}
 	return minPlateDecreaseLineResult{calls: minPlateDecreaseStepTrials, end: minPlateDecreaseSearchExhausted}
@@ -430,32 +431,45 @@ type minPlateDecreaseSearchEnd uint8
 // f(x + t·d) − f(x) ≈ c·t with c > 0, so that the gradient's predicted
 // fall is contradicted at every scale. At a minimizer f instead rises
 // like t² (curvature) or changes by rounding noise that does not follow
-// t, and a search that finds no decrease there has converged. Three
-// consecutive pairs of trials whose rises agree with proportionality
-// within a factor of √2 make the trend; a trial that breaks it starts
-// over. This is the linear model's test at the heart of gradient checking
-// (Nocedal & Wright 2006, §8.1: a correct gradient makes the error of
-// f(x) + t·∇fᵀd shrink like t²).
+// t, and a search that finds no decrease there has converged. This is the
+// linear model's test at the heart of gradient checking (Nocedal & Wright
+// 2006, §8.1: with a correct gradient the error of f(x) + t·∇fᵀd shrinks
+// like t²). The rules, tuned on wrong and exact gradients (common
+// practice, no published source):
+//
+//   - a pair of trials agrees with proportionality when both rises are
+//     positive and (Δf₁/Δf₂)/(t₁/t₂) lies within a factor √2 of 1;
+//   - three agreeing pairs at the end of the search, or five anywhere in
+//     a row, make the trend; a disagreeing pair starts over;
+//   - a trial is left out when the step actually taken is not t·d (a
+//     component too large to move by t·dᵢ in floating point), or when its
+//     change is within 64 rounding units of f(x), where only noise shows.
 type minPlateDecreaseRiseTrend struct {
-	step, rise float32 // the previous failed trial
+	step, rise float32 // the previous counted trial
 	linear     int     // consecutive proportional rises so far
+	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t whose value changed f by rise (NaN or ±Inf
-// when the value was not finite).
-func (r *minPlateDecreaseRiseTrend) add(t, rise float32) {
+// add records a failed trial t that changed f(x) = fx by rise (NaN or
+// ±Inf when the value was not finite); faithful says whether the step
+// actually taken was t·d.
+func (r *minPlateDecreaseRiseTrend) add(t, rise, fx float32, faithful bool) {
+	if !faithful || minPlateDecreaseAbs(rise) <= 64*minPlateDecreaseUnitRoundoff*minPlateDecreaseAbs(fx) {
+		return
+	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
 	if rise > 0 && r.rise > 0 && ratio >= 0.7071 && ratio <= 1.4143 {
 		r.linear++
 	} else {
 		r.linear = 0
 	}
+	r.latched = r.latched || r.linear >= 5
 	r.step, r.rise = t, rise
 }
 
 // contradicts reports whether the trials showed a proportional rise.
 func (r *minPlateDecreaseRiseTrend) contradicts() bool {
-	return r.linear >= 3
+	return r.latched || r.linear >= 3
 }
 
 // minPlateDecreaseTinyOrExhausted ends a search that has run below the step limit: no
@@ -488,6 +502,17 @@ func minPlateDecreaseMoveTo(out, x *[2]float32, t float32, d *[2]float32) {
 // around Fig. 3.2), which is why armijoDecrease exists.
 func minPlateDecreaseAcceptable(fx, ft, t, slope float32) bool {
 	return ft < fx
+}
+
+// minPlateDecreaseFaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func minPlateDecreaseFaithfulStep(x, xt, d *[2]float32, t float32) bool {
+	for i := range x {
+		if want := t * d[i]; !(minPlateDecreaseAbs(xt[i]-x[i]-want) <= 0.01*minPlateDecreaseAbs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // minPlateDecreaseBacktrackTrial minimizes a model of φ(t) = f(x + t·d) built from what
