@@ -50,11 +50,6 @@ var (
 	})
 )
 
-// QuasiNewton reports whether a direction's natural step is 1.
-func QuasiNewton(direction string) bool {
-	return direction == "bfgs" || direction == "lbfgs"
-}
-
 // Stop limits; every minimizer reads all four.
 var (
 	StopGradient = Param{Key: "gradient", Default: 1e-8, Low: 0, High: math.Inf(1),

@@ -224,8 +224,8 @@ func TestDifferencesMatchAnalytic(t *testing.T) {
 // size about h times the second derivative (Nocedal & Wright 2006, §8.1),
 // above a tight gradient limit, and no step can decrease f. Every rule
 // must then stop converged on the step limit, after evaluating at least
-// one trial, and keep x: f is flat along d at the step limit, far flatter
-// than the noisy gradient predicts (see flatOrNoDecrease).
+// one trial, and keep x: with differences, a search that finds no
+// decrease above the step limit is convergence to their accuracy.
 func TestExactMinimumWithNoisyGradientStopsOnStep(t *testing.T) {
 	for _, p := range everyPolicy() {
 		if p.source != sourceForward {
