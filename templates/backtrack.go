@@ -55,7 +55,7 @@ func acceptable(fx, ft, t, slope elem) bool {
 
 // simpleDecrease accepts any decrease, f(x + t·d) < f(x). Simple decrease
 // does not guarantee convergence (Nocedal & Wright 2006, §3.1, the example
-// around Fig. 3.2), which is why armijoDecrease exists.
+// around Fig. 3.2), which is why the Armijo rule exists.
 func simpleDecrease(fx, ft, t, slope elem) bool {
 	return ft < fx
 }

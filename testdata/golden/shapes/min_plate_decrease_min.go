@@ -499,7 +499,7 @@ func minPlateDecreaseMoveTo(out, x *[2]float32, t float32, d *[2]float32) {
 
 // minPlateDecreaseAcceptable accepts any decrease, f(x + t·d) < f(x). Simple decrease
 // does not guarantee convergence (Nocedal & Wright 2006, §3.1, the example
-// around Fig. 3.2), which is why armijoDecrease exists.
+// around Fig. 3.2), which is why the Armijo rule exists.
 func minPlateDecreaseAcceptable(fx, ft, t, slope float32) bool {
 	return ft < fx
 }
