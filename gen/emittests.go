@@ -3,6 +3,7 @@ package gen
 import (
 	"fmt"
 	"io"
+	"math"
 
 	"github.com/dave/jennifer/jen"
 )
@@ -234,7 +235,7 @@ func emitGradientCheck(f *jen.File, p *Plan, helper string, setup func() []jen.C
 			jen.Id("g").Op(":=").Id("gradient").Call(append(recvArg, jen.Id("x"))...),
 			jen.Id("fx").Op(":=").Qual("math", "Abs").Call(jen.Float64().Call(jen.Id("value").Call(append(recvArg, jen.Id("x"))...))),
 			jen.For(jen.Id("i").Op(":=").Range().Id("x")).Block(
-				jen.Id("h").Op(":=").Id(s.Elem).Call(jen.Op(fmt.Sprintf("%s", formatFloat(cbrtRoundoff(s.Elem)))).Op("*").Qual("math", "Max").Call(jen.Lit(1.0), jen.Qual("math", "Abs").Call(jen.Float64().Call(jen.Id("x").Index(jen.Id("i")))))),
+				jen.Id("h").Op(":=").Id(s.Elem).Call(jen.Op(formatFloat(math.Cbrt(roundoff(s.Elem)))).Op("*").Qual("math", "Max").Call(jen.Lit(1.0), jen.Qual("math", "Abs").Call(jen.Float64().Call(jen.Id("x").Index(jen.Id("i")))))),
 				jen.List(jen.Id("up"), jen.Id("down")).Op(":=").List(jen.Id("x"), jen.Id("x")),
 				jen.Id("up").Index(jen.Id("i")).Op("+=").Id("h"),
 				jen.Id("down").Index(jen.Id("i")).Op("-=").Id("h"),
@@ -247,11 +248,4 @@ func emitGradientCheck(f *jen.File, p *Plan, helper string, setup func() []jen.C
 			),
 		),
 	)...)
-}
-
-func cbrtRoundoff(elem string) float64 {
-	if elem == "float32" {
-		return 0x1p-8
-	}
-	return 4.806217383937352e-06 // ∛(2⁻⁵³)
 }

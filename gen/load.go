@@ -182,11 +182,7 @@ func parseErrorPos(s, dir string) Pos {
 	if len(parts) >= 3 {
 		fmt.Sscan(parts[len(parts)-2], &p.Line)
 		fmt.Sscan(parts[len(parts)-1], &p.Col)
-		file := strings.Join(parts[:len(parts)-2], ":")
-		if abs, err := filepath.Abs(file); err == nil && filepath.IsAbs(file) {
-			file = abs
-		}
-		p.File = displayPath(file)
+		p.File = displayPath(strings.Join(parts[:len(parts)-2], ":"))
 		return p
 	}
 	return Pos{File: dir, Line: 1, Col: 1}

@@ -37,7 +37,7 @@ func backtrackSearch(recv *receiver, x *vec, fx elem, d *vec, slope, first, tiny
 		if finite(ft) && acceptable(fx, ft, t, slope) {
 			return lineResult{step: t, value: ft, calls: trial + 1, end: searchAccepted}
 		}
-		trend.add(t, ft-fx, fx, faithfulStep(x, xt, d, t))
+		trend.add(x, xt, d, t, ft-fx, fx)
 		t, previous, fPrevious = backtrackTrial(fx, slope, t, ft, previous, fPrevious), t, ft
 	}
 	return lineResult{calls: stepTrials, end: searchExhausted}

@@ -44,11 +44,16 @@ type riseTrend struct {
 	latched    bool // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *riseTrend) add(t, rise, fx elem, faithful bool) {
-	if !faithful || abs(rise) <= 64*unitRoundoff*abs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *riseTrend) add(x, xt, d *vec, t, rise, fx elem) {
+	if derivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if abs(rise) <= 64*unitRoundoff*abs(fx) || !faithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t

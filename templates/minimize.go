@@ -94,11 +94,9 @@ func minimize(recv *receiver, x0 vec, lim limits) outcome {
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// riseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// riseTrend, which never reports that for differences).
 			out.status = statusStepTiny
-			if found.rising && derivativeCost == 0 {
+			if found.rising {
 				out.status = statusNoDecrease
 			}
 			return out

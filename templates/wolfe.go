@@ -56,7 +56,7 @@ func wolfeSearch(recv *receiver, x *vec, fx elem, d *vec, slope, first, tiny ele
 		previous := low
 		if !finite(current.value) || current.value > fx+stepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, faithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+derivativeCost > budget {
 				return lineResult{calls: calls, end: searchOutOfBudget}

@@ -201,11 +201,9 @@ func concaveLeftStrongWolfeMTAlphaE1Minimize(x0 [1]float64, lim ConcaveLeftStron
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// concaveLeftStrongWolfeMTAlphaE1RiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// concaveLeftStrongWolfeMTAlphaE1RiseTrend, which never reports that for differences).
 			out.status = ConcaveLeftStrongWolfeMTAlphaE1StepTiny
-			if found.rising && concaveLeftStrongWolfeMTAlphaE1DerivativeCost == 0 {
+			if found.rising {
 				out.status = ConcaveLeftStrongWolfeMTAlphaE1NoDecrease
 			}
 			return out
@@ -409,7 +407,7 @@ func concaveLeftStrongWolfeMTAlphaE1LineSearch(x *[1]float64, fx float64, d *[1]
 		previous := low
 		if !concaveLeftStrongWolfeMTAlphaE1Finite(current.value) || current.value > fx+concaveLeftStrongWolfeMTAlphaE1StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, concaveLeftStrongWolfeMTAlphaE1FaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+concaveLeftStrongWolfeMTAlphaE1DerivativeCost > budget {
 				return concaveLeftStrongWolfeMTAlphaE1LineResult{calls: calls, end: concaveLeftStrongWolfeMTAlphaE1SearchOutOfBudget}
@@ -486,11 +484,16 @@ type concaveLeftStrongWolfeMTAlphaE1RiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *concaveLeftStrongWolfeMTAlphaE1RiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || concaveLeftStrongWolfeMTAlphaE1Abs(rise) <= 64*concaveLeftStrongWolfeMTAlphaE1UnitRoundoff*concaveLeftStrongWolfeMTAlphaE1Abs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *concaveLeftStrongWolfeMTAlphaE1RiseTrend) add(x, xt, d *[1]float64, t, rise, fx float64) {
+	if concaveLeftStrongWolfeMTAlphaE1DerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if concaveLeftStrongWolfeMTAlphaE1Abs(rise) <= 64*concaveLeftStrongWolfeMTAlphaE1UnitRoundoff*concaveLeftStrongWolfeMTAlphaE1Abs(fx) || !concaveLeftStrongWolfeMTAlphaE1FaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -506,6 +509,17 @@ func (r *concaveLeftStrongWolfeMTAlphaE1RiseTrend) add(t, rise, fx float64, fait
 // contradicts reports whether the trials showed a proportional rise.
 func (r *concaveLeftStrongWolfeMTAlphaE1RiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// concaveLeftStrongWolfeMTAlphaE1FaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func concaveLeftStrongWolfeMTAlphaE1FaithfulStep(x, xt, d *[1]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(concaveLeftStrongWolfeMTAlphaE1Abs(xt[i]-x[i]-want) <= 0.01*concaveLeftStrongWolfeMTAlphaE1Abs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // concaveLeftStrongWolfeMTAlphaE1TinyOrExhausted ends a search that has run below the step limit: no
@@ -542,17 +556,6 @@ func concaveLeftStrongWolfeMTAlphaE1MoveTo(out, x *[1]float64, t float64, d *[1]
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// concaveLeftStrongWolfeMTAlphaE1FaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func concaveLeftStrongWolfeMTAlphaE1FaithfulStep(x, xt, d *[1]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(concaveLeftStrongWolfeMTAlphaE1Abs(xt[i]-x[i]-want) <= 0.01*concaveLeftStrongWolfeMTAlphaE1Abs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // concaveLeftStrongWolfeMTAlphaE1CurvatureMet is the strong Wolfe curvature condition

@@ -201,11 +201,9 @@ func concaveLeftStrongWolfeNWAlphaE3Minimize(x0 [1]float64, lim ConcaveLeftStron
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// concaveLeftStrongWolfeNWAlphaE3RiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// concaveLeftStrongWolfeNWAlphaE3RiseTrend, which never reports that for differences).
 			out.status = ConcaveLeftStrongWolfeNWAlphaE3StepTiny
-			if found.rising && concaveLeftStrongWolfeNWAlphaE3DerivativeCost == 0 {
+			if found.rising {
 				out.status = ConcaveLeftStrongWolfeNWAlphaE3NoDecrease
 			}
 			return out
@@ -409,7 +407,7 @@ func concaveLeftStrongWolfeNWAlphaE3LineSearch(x *[1]float64, fx float64, d *[1]
 		previous := low
 		if !concaveLeftStrongWolfeNWAlphaE3Finite(current.value) || current.value > fx+concaveLeftStrongWolfeNWAlphaE3StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, concaveLeftStrongWolfeNWAlphaE3FaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+concaveLeftStrongWolfeNWAlphaE3DerivativeCost > budget {
 				return concaveLeftStrongWolfeNWAlphaE3LineResult{calls: calls, end: concaveLeftStrongWolfeNWAlphaE3SearchOutOfBudget}
@@ -486,11 +484,16 @@ type concaveLeftStrongWolfeNWAlphaE3RiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *concaveLeftStrongWolfeNWAlphaE3RiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || concaveLeftStrongWolfeNWAlphaE3Abs(rise) <= 64*concaveLeftStrongWolfeNWAlphaE3UnitRoundoff*concaveLeftStrongWolfeNWAlphaE3Abs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *concaveLeftStrongWolfeNWAlphaE3RiseTrend) add(x, xt, d *[1]float64, t, rise, fx float64) {
+	if concaveLeftStrongWolfeNWAlphaE3DerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if concaveLeftStrongWolfeNWAlphaE3Abs(rise) <= 64*concaveLeftStrongWolfeNWAlphaE3UnitRoundoff*concaveLeftStrongWolfeNWAlphaE3Abs(fx) || !concaveLeftStrongWolfeNWAlphaE3FaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -506,6 +509,17 @@ func (r *concaveLeftStrongWolfeNWAlphaE3RiseTrend) add(t, rise, fx float64, fait
 // contradicts reports whether the trials showed a proportional rise.
 func (r *concaveLeftStrongWolfeNWAlphaE3RiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// concaveLeftStrongWolfeNWAlphaE3FaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func concaveLeftStrongWolfeNWAlphaE3FaithfulStep(x, xt, d *[1]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(concaveLeftStrongWolfeNWAlphaE3Abs(xt[i]-x[i]-want) <= 0.01*concaveLeftStrongWolfeNWAlphaE3Abs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // concaveLeftStrongWolfeNWAlphaE3TinyOrExhausted ends a search that has run below the step limit: no
@@ -542,17 +556,6 @@ func concaveLeftStrongWolfeNWAlphaE3MoveTo(out, x *[1]float64, t float64, d *[1]
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// concaveLeftStrongWolfeNWAlphaE3FaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func concaveLeftStrongWolfeNWAlphaE3FaithfulStep(x, xt, d *[1]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(concaveLeftStrongWolfeNWAlphaE3Abs(xt[i]-x[i]-want) <= 0.01*concaveLeftStrongWolfeNWAlphaE3Abs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // concaveLeftStrongWolfeNWAlphaE3CurvatureMet is the strong Wolfe curvature condition

@@ -201,11 +201,9 @@ func concaveLeftStrongWolfeNWAlphaEm3Minimize(x0 [1]float64, lim ConcaveLeftStro
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// concaveLeftStrongWolfeNWAlphaEm3RiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// concaveLeftStrongWolfeNWAlphaEm3RiseTrend, which never reports that for differences).
 			out.status = ConcaveLeftStrongWolfeNWAlphaEm3StepTiny
-			if found.rising && concaveLeftStrongWolfeNWAlphaEm3DerivativeCost == 0 {
+			if found.rising {
 				out.status = ConcaveLeftStrongWolfeNWAlphaEm3NoDecrease
 			}
 			return out
@@ -409,7 +407,7 @@ func concaveLeftStrongWolfeNWAlphaEm3LineSearch(x *[1]float64, fx float64, d *[1
 		previous := low
 		if !concaveLeftStrongWolfeNWAlphaEm3Finite(current.value) || current.value > fx+concaveLeftStrongWolfeNWAlphaEm3StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, concaveLeftStrongWolfeNWAlphaEm3FaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+concaveLeftStrongWolfeNWAlphaEm3DerivativeCost > budget {
 				return concaveLeftStrongWolfeNWAlphaEm3LineResult{calls: calls, end: concaveLeftStrongWolfeNWAlphaEm3SearchOutOfBudget}
@@ -486,11 +484,16 @@ type concaveLeftStrongWolfeNWAlphaEm3RiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *concaveLeftStrongWolfeNWAlphaEm3RiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || concaveLeftStrongWolfeNWAlphaEm3Abs(rise) <= 64*concaveLeftStrongWolfeNWAlphaEm3UnitRoundoff*concaveLeftStrongWolfeNWAlphaEm3Abs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *concaveLeftStrongWolfeNWAlphaEm3RiseTrend) add(x, xt, d *[1]float64, t, rise, fx float64) {
+	if concaveLeftStrongWolfeNWAlphaEm3DerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if concaveLeftStrongWolfeNWAlphaEm3Abs(rise) <= 64*concaveLeftStrongWolfeNWAlphaEm3UnitRoundoff*concaveLeftStrongWolfeNWAlphaEm3Abs(fx) || !concaveLeftStrongWolfeNWAlphaEm3FaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -506,6 +509,17 @@ func (r *concaveLeftStrongWolfeNWAlphaEm3RiseTrend) add(t, rise, fx float64, fai
 // contradicts reports whether the trials showed a proportional rise.
 func (r *concaveLeftStrongWolfeNWAlphaEm3RiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// concaveLeftStrongWolfeNWAlphaEm3FaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func concaveLeftStrongWolfeNWAlphaEm3FaithfulStep(x, xt, d *[1]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(concaveLeftStrongWolfeNWAlphaEm3Abs(xt[i]-x[i]-want) <= 0.01*concaveLeftStrongWolfeNWAlphaEm3Abs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // concaveLeftStrongWolfeNWAlphaEm3TinyOrExhausted ends a search that has run below the step limit: no
@@ -542,17 +556,6 @@ func concaveLeftStrongWolfeNWAlphaEm3MoveTo(out, x *[1]float64, t float64, d *[1
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// concaveLeftStrongWolfeNWAlphaEm3FaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func concaveLeftStrongWolfeNWAlphaEm3FaithfulStep(x, xt, d *[1]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(concaveLeftStrongWolfeNWAlphaEm3Abs(xt[i]-x[i]-want) <= 0.01*concaveLeftStrongWolfeNWAlphaEm3Abs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // concaveLeftStrongWolfeNWAlphaEm3CurvatureMet is the strong Wolfe curvature condition

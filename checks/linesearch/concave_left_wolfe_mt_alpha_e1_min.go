@@ -201,11 +201,9 @@ func concaveLeftWolfeMTAlphaE1Minimize(x0 [1]float64, lim ConcaveLeftWolfeMTAlph
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// concaveLeftWolfeMTAlphaE1RiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// concaveLeftWolfeMTAlphaE1RiseTrend, which never reports that for differences).
 			out.status = ConcaveLeftWolfeMTAlphaE1StepTiny
-			if found.rising && concaveLeftWolfeMTAlphaE1DerivativeCost == 0 {
+			if found.rising {
 				out.status = ConcaveLeftWolfeMTAlphaE1NoDecrease
 			}
 			return out
@@ -409,7 +407,7 @@ func concaveLeftWolfeMTAlphaE1LineSearch(x *[1]float64, fx float64, d *[1]float6
 		previous := low
 		if !concaveLeftWolfeMTAlphaE1Finite(current.value) || current.value > fx+concaveLeftWolfeMTAlphaE1StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, concaveLeftWolfeMTAlphaE1FaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+concaveLeftWolfeMTAlphaE1DerivativeCost > budget {
 				return concaveLeftWolfeMTAlphaE1LineResult{calls: calls, end: concaveLeftWolfeMTAlphaE1SearchOutOfBudget}
@@ -486,11 +484,16 @@ type concaveLeftWolfeMTAlphaE1RiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *concaveLeftWolfeMTAlphaE1RiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || concaveLeftWolfeMTAlphaE1Abs(rise) <= 64*concaveLeftWolfeMTAlphaE1UnitRoundoff*concaveLeftWolfeMTAlphaE1Abs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *concaveLeftWolfeMTAlphaE1RiseTrend) add(x, xt, d *[1]float64, t, rise, fx float64) {
+	if concaveLeftWolfeMTAlphaE1DerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if concaveLeftWolfeMTAlphaE1Abs(rise) <= 64*concaveLeftWolfeMTAlphaE1UnitRoundoff*concaveLeftWolfeMTAlphaE1Abs(fx) || !concaveLeftWolfeMTAlphaE1FaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -506,6 +509,17 @@ func (r *concaveLeftWolfeMTAlphaE1RiseTrend) add(t, rise, fx float64, faithful b
 // contradicts reports whether the trials showed a proportional rise.
 func (r *concaveLeftWolfeMTAlphaE1RiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// concaveLeftWolfeMTAlphaE1FaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func concaveLeftWolfeMTAlphaE1FaithfulStep(x, xt, d *[1]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(concaveLeftWolfeMTAlphaE1Abs(xt[i]-x[i]-want) <= 0.01*concaveLeftWolfeMTAlphaE1Abs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // concaveLeftWolfeMTAlphaE1TinyOrExhausted ends a search that has run below the step limit: no
@@ -542,17 +556,6 @@ func concaveLeftWolfeMTAlphaE1MoveTo(out, x *[1]float64, t float64, d *[1]float6
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// concaveLeftWolfeMTAlphaE1FaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func concaveLeftWolfeMTAlphaE1FaithfulStep(x, xt, d *[1]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(concaveLeftWolfeMTAlphaE1Abs(xt[i]-x[i]-want) <= 0.01*concaveLeftWolfeMTAlphaE1Abs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // concaveLeftWolfeMTAlphaE1CurvatureMet is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)

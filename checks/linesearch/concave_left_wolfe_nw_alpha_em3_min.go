@@ -201,11 +201,9 @@ func concaveLeftWolfeNWAlphaEm3Minimize(x0 [1]float64, lim ConcaveLeftWolfeNWAlp
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// concaveLeftWolfeNWAlphaEm3RiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// concaveLeftWolfeNWAlphaEm3RiseTrend, which never reports that for differences).
 			out.status = ConcaveLeftWolfeNWAlphaEm3StepTiny
-			if found.rising && concaveLeftWolfeNWAlphaEm3DerivativeCost == 0 {
+			if found.rising {
 				out.status = ConcaveLeftWolfeNWAlphaEm3NoDecrease
 			}
 			return out
@@ -409,7 +407,7 @@ func concaveLeftWolfeNWAlphaEm3LineSearch(x *[1]float64, fx float64, d *[1]float
 		previous := low
 		if !concaveLeftWolfeNWAlphaEm3Finite(current.value) || current.value > fx+concaveLeftWolfeNWAlphaEm3StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, concaveLeftWolfeNWAlphaEm3FaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+concaveLeftWolfeNWAlphaEm3DerivativeCost > budget {
 				return concaveLeftWolfeNWAlphaEm3LineResult{calls: calls, end: concaveLeftWolfeNWAlphaEm3SearchOutOfBudget}
@@ -486,11 +484,16 @@ type concaveLeftWolfeNWAlphaEm3RiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *concaveLeftWolfeNWAlphaEm3RiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || concaveLeftWolfeNWAlphaEm3Abs(rise) <= 64*concaveLeftWolfeNWAlphaEm3UnitRoundoff*concaveLeftWolfeNWAlphaEm3Abs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *concaveLeftWolfeNWAlphaEm3RiseTrend) add(x, xt, d *[1]float64, t, rise, fx float64) {
+	if concaveLeftWolfeNWAlphaEm3DerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if concaveLeftWolfeNWAlphaEm3Abs(rise) <= 64*concaveLeftWolfeNWAlphaEm3UnitRoundoff*concaveLeftWolfeNWAlphaEm3Abs(fx) || !concaveLeftWolfeNWAlphaEm3FaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -506,6 +509,17 @@ func (r *concaveLeftWolfeNWAlphaEm3RiseTrend) add(t, rise, fx float64, faithful 
 // contradicts reports whether the trials showed a proportional rise.
 func (r *concaveLeftWolfeNWAlphaEm3RiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// concaveLeftWolfeNWAlphaEm3FaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func concaveLeftWolfeNWAlphaEm3FaithfulStep(x, xt, d *[1]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(concaveLeftWolfeNWAlphaEm3Abs(xt[i]-x[i]-want) <= 0.01*concaveLeftWolfeNWAlphaEm3Abs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // concaveLeftWolfeNWAlphaEm3TinyOrExhausted ends a search that has run below the step limit: no
@@ -542,17 +556,6 @@ func concaveLeftWolfeNWAlphaEm3MoveTo(out, x *[1]float64, t float64, d *[1]float
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// concaveLeftWolfeNWAlphaEm3FaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func concaveLeftWolfeNWAlphaEm3FaithfulStep(x, xt, d *[1]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(concaveLeftWolfeNWAlphaEm3Abs(xt[i]-x[i]-want) <= 0.01*concaveLeftWolfeNWAlphaEm3Abs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // concaveLeftWolfeNWAlphaEm3CurvatureMet is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)

@@ -201,11 +201,9 @@ func concaveRightWolfeNWAlphaEm3Minimize(x0 [1]float64, lim ConcaveRightWolfeNWA
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// concaveRightWolfeNWAlphaEm3RiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// concaveRightWolfeNWAlphaEm3RiseTrend, which never reports that for differences).
 			out.status = ConcaveRightWolfeNWAlphaEm3StepTiny
-			if found.rising && concaveRightWolfeNWAlphaEm3DerivativeCost == 0 {
+			if found.rising {
 				out.status = ConcaveRightWolfeNWAlphaEm3NoDecrease
 			}
 			return out
@@ -409,7 +407,7 @@ func concaveRightWolfeNWAlphaEm3LineSearch(x *[1]float64, fx float64, d *[1]floa
 		previous := low
 		if !concaveRightWolfeNWAlphaEm3Finite(current.value) || current.value > fx+concaveRightWolfeNWAlphaEm3StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, concaveRightWolfeNWAlphaEm3FaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+concaveRightWolfeNWAlphaEm3DerivativeCost > budget {
 				return concaveRightWolfeNWAlphaEm3LineResult{calls: calls, end: concaveRightWolfeNWAlphaEm3SearchOutOfBudget}
@@ -486,11 +484,16 @@ type concaveRightWolfeNWAlphaEm3RiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *concaveRightWolfeNWAlphaEm3RiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || concaveRightWolfeNWAlphaEm3Abs(rise) <= 64*concaveRightWolfeNWAlphaEm3UnitRoundoff*concaveRightWolfeNWAlphaEm3Abs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *concaveRightWolfeNWAlphaEm3RiseTrend) add(x, xt, d *[1]float64, t, rise, fx float64) {
+	if concaveRightWolfeNWAlphaEm3DerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if concaveRightWolfeNWAlphaEm3Abs(rise) <= 64*concaveRightWolfeNWAlphaEm3UnitRoundoff*concaveRightWolfeNWAlphaEm3Abs(fx) || !concaveRightWolfeNWAlphaEm3FaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -506,6 +509,17 @@ func (r *concaveRightWolfeNWAlphaEm3RiseTrend) add(t, rise, fx float64, faithful
 // contradicts reports whether the trials showed a proportional rise.
 func (r *concaveRightWolfeNWAlphaEm3RiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// concaveRightWolfeNWAlphaEm3FaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func concaveRightWolfeNWAlphaEm3FaithfulStep(x, xt, d *[1]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(concaveRightWolfeNWAlphaEm3Abs(xt[i]-x[i]-want) <= 0.01*concaveRightWolfeNWAlphaEm3Abs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // concaveRightWolfeNWAlphaEm3TinyOrExhausted ends a search that has run below the step limit: no
@@ -542,17 +556,6 @@ func concaveRightWolfeNWAlphaEm3MoveTo(out, x *[1]float64, t float64, d *[1]floa
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// concaveRightWolfeNWAlphaEm3FaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func concaveRightWolfeNWAlphaEm3FaithfulStep(x, xt, d *[1]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(concaveRightWolfeNWAlphaEm3Abs(xt[i]-x[i]-want) <= 0.01*concaveRightWolfeNWAlphaEm3Abs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // concaveRightWolfeNWAlphaEm3CurvatureMet is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)

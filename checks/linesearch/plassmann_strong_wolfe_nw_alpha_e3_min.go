@@ -201,11 +201,9 @@ func plassmannStrongWolfeNWAlphaE3Minimize(x0 [1]float64, lim PlassmannStrongWol
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// plassmannStrongWolfeNWAlphaE3RiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// plassmannStrongWolfeNWAlphaE3RiseTrend, which never reports that for differences).
 			out.status = PlassmannStrongWolfeNWAlphaE3StepTiny
-			if found.rising && plassmannStrongWolfeNWAlphaE3DerivativeCost == 0 {
+			if found.rising {
 				out.status = PlassmannStrongWolfeNWAlphaE3NoDecrease
 			}
 			return out
@@ -409,7 +407,7 @@ func plassmannStrongWolfeNWAlphaE3LineSearch(x *[1]float64, fx float64, d *[1]fl
 		previous := low
 		if !plassmannStrongWolfeNWAlphaE3Finite(current.value) || current.value > fx+plassmannStrongWolfeNWAlphaE3StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, plassmannStrongWolfeNWAlphaE3FaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+plassmannStrongWolfeNWAlphaE3DerivativeCost > budget {
 				return plassmannStrongWolfeNWAlphaE3LineResult{calls: calls, end: plassmannStrongWolfeNWAlphaE3SearchOutOfBudget}
@@ -486,11 +484,16 @@ type plassmannStrongWolfeNWAlphaE3RiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *plassmannStrongWolfeNWAlphaE3RiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || plassmannStrongWolfeNWAlphaE3Abs(rise) <= 64*plassmannStrongWolfeNWAlphaE3UnitRoundoff*plassmannStrongWolfeNWAlphaE3Abs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *plassmannStrongWolfeNWAlphaE3RiseTrend) add(x, xt, d *[1]float64, t, rise, fx float64) {
+	if plassmannStrongWolfeNWAlphaE3DerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if plassmannStrongWolfeNWAlphaE3Abs(rise) <= 64*plassmannStrongWolfeNWAlphaE3UnitRoundoff*plassmannStrongWolfeNWAlphaE3Abs(fx) || !plassmannStrongWolfeNWAlphaE3FaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -506,6 +509,17 @@ func (r *plassmannStrongWolfeNWAlphaE3RiseTrend) add(t, rise, fx float64, faithf
 // contradicts reports whether the trials showed a proportional rise.
 func (r *plassmannStrongWolfeNWAlphaE3RiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// plassmannStrongWolfeNWAlphaE3FaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func plassmannStrongWolfeNWAlphaE3FaithfulStep(x, xt, d *[1]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(plassmannStrongWolfeNWAlphaE3Abs(xt[i]-x[i]-want) <= 0.01*plassmannStrongWolfeNWAlphaE3Abs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // plassmannStrongWolfeNWAlphaE3TinyOrExhausted ends a search that has run below the step limit: no
@@ -542,17 +556,6 @@ func plassmannStrongWolfeNWAlphaE3MoveTo(out, x *[1]float64, t float64, d *[1]fl
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// plassmannStrongWolfeNWAlphaE3FaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func plassmannStrongWolfeNWAlphaE3FaithfulStep(x, xt, d *[1]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(plassmannStrongWolfeNWAlphaE3Abs(xt[i]-x[i]-want) <= 0.01*plassmannStrongWolfeNWAlphaE3Abs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // plassmannStrongWolfeNWAlphaE3CurvatureMet is the strong Wolfe curvature condition

@@ -201,11 +201,9 @@ func plassmannWolfeNWAlphaE1Minimize(x0 [1]float64, lim PlassmannWolfeNWAlphaE1L
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// plassmannWolfeNWAlphaE1RiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// plassmannWolfeNWAlphaE1RiseTrend, which never reports that for differences).
 			out.status = PlassmannWolfeNWAlphaE1StepTiny
-			if found.rising && plassmannWolfeNWAlphaE1DerivativeCost == 0 {
+			if found.rising {
 				out.status = PlassmannWolfeNWAlphaE1NoDecrease
 			}
 			return out
@@ -409,7 +407,7 @@ func plassmannWolfeNWAlphaE1LineSearch(x *[1]float64, fx float64, d *[1]float64,
 		previous := low
 		if !plassmannWolfeNWAlphaE1Finite(current.value) || current.value > fx+plassmannWolfeNWAlphaE1StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, plassmannWolfeNWAlphaE1FaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+plassmannWolfeNWAlphaE1DerivativeCost > budget {
 				return plassmannWolfeNWAlphaE1LineResult{calls: calls, end: plassmannWolfeNWAlphaE1SearchOutOfBudget}
@@ -486,11 +484,16 @@ type plassmannWolfeNWAlphaE1RiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *plassmannWolfeNWAlphaE1RiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || plassmannWolfeNWAlphaE1Abs(rise) <= 64*plassmannWolfeNWAlphaE1UnitRoundoff*plassmannWolfeNWAlphaE1Abs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *plassmannWolfeNWAlphaE1RiseTrend) add(x, xt, d *[1]float64, t, rise, fx float64) {
+	if plassmannWolfeNWAlphaE1DerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if plassmannWolfeNWAlphaE1Abs(rise) <= 64*plassmannWolfeNWAlphaE1UnitRoundoff*plassmannWolfeNWAlphaE1Abs(fx) || !plassmannWolfeNWAlphaE1FaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -506,6 +509,17 @@ func (r *plassmannWolfeNWAlphaE1RiseTrend) add(t, rise, fx float64, faithful boo
 // contradicts reports whether the trials showed a proportional rise.
 func (r *plassmannWolfeNWAlphaE1RiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// plassmannWolfeNWAlphaE1FaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func plassmannWolfeNWAlphaE1FaithfulStep(x, xt, d *[1]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(plassmannWolfeNWAlphaE1Abs(xt[i]-x[i]-want) <= 0.01*plassmannWolfeNWAlphaE1Abs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // plassmannWolfeNWAlphaE1TinyOrExhausted ends a search that has run below the step limit: no
@@ -542,17 +556,6 @@ func plassmannWolfeNWAlphaE1MoveTo(out, x *[1]float64, t float64, d *[1]float64)
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// plassmannWolfeNWAlphaE1FaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func plassmannWolfeNWAlphaE1FaithfulStep(x, xt, d *[1]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(plassmannWolfeNWAlphaE1Abs(xt[i]-x[i]-want) <= 0.01*plassmannWolfeNWAlphaE1Abs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // plassmannWolfeNWAlphaE1CurvatureMet is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)

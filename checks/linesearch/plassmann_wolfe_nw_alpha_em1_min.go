@@ -201,11 +201,9 @@ func plassmannWolfeNWAlphaEm1Minimize(x0 [1]float64, lim PlassmannWolfeNWAlphaEm
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// plassmannWolfeNWAlphaEm1RiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// plassmannWolfeNWAlphaEm1RiseTrend, which never reports that for differences).
 			out.status = PlassmannWolfeNWAlphaEm1StepTiny
-			if found.rising && plassmannWolfeNWAlphaEm1DerivativeCost == 0 {
+			if found.rising {
 				out.status = PlassmannWolfeNWAlphaEm1NoDecrease
 			}
 			return out
@@ -409,7 +407,7 @@ func plassmannWolfeNWAlphaEm1LineSearch(x *[1]float64, fx float64, d *[1]float64
 		previous := low
 		if !plassmannWolfeNWAlphaEm1Finite(current.value) || current.value > fx+plassmannWolfeNWAlphaEm1StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, plassmannWolfeNWAlphaEm1FaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+plassmannWolfeNWAlphaEm1DerivativeCost > budget {
 				return plassmannWolfeNWAlphaEm1LineResult{calls: calls, end: plassmannWolfeNWAlphaEm1SearchOutOfBudget}
@@ -486,11 +484,16 @@ type plassmannWolfeNWAlphaEm1RiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *plassmannWolfeNWAlphaEm1RiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || plassmannWolfeNWAlphaEm1Abs(rise) <= 64*plassmannWolfeNWAlphaEm1UnitRoundoff*plassmannWolfeNWAlphaEm1Abs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *plassmannWolfeNWAlphaEm1RiseTrend) add(x, xt, d *[1]float64, t, rise, fx float64) {
+	if plassmannWolfeNWAlphaEm1DerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if plassmannWolfeNWAlphaEm1Abs(rise) <= 64*plassmannWolfeNWAlphaEm1UnitRoundoff*plassmannWolfeNWAlphaEm1Abs(fx) || !plassmannWolfeNWAlphaEm1FaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -506,6 +509,17 @@ func (r *plassmannWolfeNWAlphaEm1RiseTrend) add(t, rise, fx float64, faithful bo
 // contradicts reports whether the trials showed a proportional rise.
 func (r *plassmannWolfeNWAlphaEm1RiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// plassmannWolfeNWAlphaEm1FaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func plassmannWolfeNWAlphaEm1FaithfulStep(x, xt, d *[1]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(plassmannWolfeNWAlphaEm1Abs(xt[i]-x[i]-want) <= 0.01*plassmannWolfeNWAlphaEm1Abs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // plassmannWolfeNWAlphaEm1TinyOrExhausted ends a search that has run below the step limit: no
@@ -542,17 +556,6 @@ func plassmannWolfeNWAlphaEm1MoveTo(out, x *[1]float64, t float64, d *[1]float64
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// plassmannWolfeNWAlphaEm1FaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func plassmannWolfeNWAlphaEm1FaithfulStep(x, xt, d *[1]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(plassmannWolfeNWAlphaEm1Abs(xt[i]-x[i]-want) <= 0.01*plassmannWolfeNWAlphaEm1Abs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // plassmannWolfeNWAlphaEm1CurvatureMet is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)

@@ -201,11 +201,9 @@ func yok2StrongWolfeMTAlphaEm1Minimize(x0 [1]float64, lim YOK2StrongWolfeMTAlpha
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// yok2StrongWolfeMTAlphaEm1RiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// yok2StrongWolfeMTAlphaEm1RiseTrend, which never reports that for differences).
 			out.status = YOK2StrongWolfeMTAlphaEm1StepTiny
-			if found.rising && yok2StrongWolfeMTAlphaEm1DerivativeCost == 0 {
+			if found.rising {
 				out.status = YOK2StrongWolfeMTAlphaEm1NoDecrease
 			}
 			return out
@@ -409,7 +407,7 @@ func yok2StrongWolfeMTAlphaEm1LineSearch(x *[1]float64, fx float64, d *[1]float6
 		previous := low
 		if !yok2StrongWolfeMTAlphaEm1Finite(current.value) || current.value > fx+yok2StrongWolfeMTAlphaEm1StepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, yok2StrongWolfeMTAlphaEm1FaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+yok2StrongWolfeMTAlphaEm1DerivativeCost > budget {
 				return yok2StrongWolfeMTAlphaEm1LineResult{calls: calls, end: yok2StrongWolfeMTAlphaEm1SearchOutOfBudget}
@@ -486,11 +484,16 @@ type yok2StrongWolfeMTAlphaEm1RiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *yok2StrongWolfeMTAlphaEm1RiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || yok2StrongWolfeMTAlphaEm1Abs(rise) <= 64*yok2StrongWolfeMTAlphaEm1UnitRoundoff*yok2StrongWolfeMTAlphaEm1Abs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *yok2StrongWolfeMTAlphaEm1RiseTrend) add(x, xt, d *[1]float64, t, rise, fx float64) {
+	if yok2StrongWolfeMTAlphaEm1DerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if yok2StrongWolfeMTAlphaEm1Abs(rise) <= 64*yok2StrongWolfeMTAlphaEm1UnitRoundoff*yok2StrongWolfeMTAlphaEm1Abs(fx) || !yok2StrongWolfeMTAlphaEm1FaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -506,6 +509,17 @@ func (r *yok2StrongWolfeMTAlphaEm1RiseTrend) add(t, rise, fx float64, faithful b
 // contradicts reports whether the trials showed a proportional rise.
 func (r *yok2StrongWolfeMTAlphaEm1RiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// yok2StrongWolfeMTAlphaEm1FaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func yok2StrongWolfeMTAlphaEm1FaithfulStep(x, xt, d *[1]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(yok2StrongWolfeMTAlphaEm1Abs(xt[i]-x[i]-want) <= 0.01*yok2StrongWolfeMTAlphaEm1Abs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // yok2StrongWolfeMTAlphaEm1TinyOrExhausted ends a search that has run below the step limit: no
@@ -542,17 +556,6 @@ func yok2StrongWolfeMTAlphaEm1MoveTo(out, x *[1]float64, t float64, d *[1]float6
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// yok2StrongWolfeMTAlphaEm1FaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func yok2StrongWolfeMTAlphaEm1FaithfulStep(x, xt, d *[1]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(yok2StrongWolfeMTAlphaEm1Abs(xt[i]-x[i]-want) <= 0.01*yok2StrongWolfeMTAlphaEm1Abs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // yok2StrongWolfeMTAlphaEm1CurvatureMet is the strong Wolfe curvature condition

@@ -201,11 +201,9 @@ func bealeBFGSAnalyticMinimize(x0 [2]float64, lim BealeBFGSAnalyticLimits) beale
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// bealeBFGSAnalyticRiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// bealeBFGSAnalyticRiseTrend, which never reports that for differences).
 			out.status = BealeBFGSAnalyticStepTiny
-			if found.rising && bealeBFGSAnalyticDerivativeCost == 0 {
+			if found.rising {
 				out.status = BealeBFGSAnalyticNoDecrease
 			}
 			return out
@@ -454,7 +452,7 @@ func bealeBFGSAnalyticLineSearch(x *[2]float64, fx float64, d *[2]float64, slope
 		previous := low
 		if !bealeBFGSAnalyticFinite(current.value) || current.value > fx+bealeBFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, bealeBFGSAnalyticFaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+bealeBFGSAnalyticDerivativeCost > budget {
 				return bealeBFGSAnalyticLineResult{calls: calls, end: bealeBFGSAnalyticSearchOutOfBudget}
@@ -531,11 +529,16 @@ type bealeBFGSAnalyticRiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *bealeBFGSAnalyticRiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || bealeBFGSAnalyticAbs(rise) <= 64*bealeBFGSAnalyticUnitRoundoff*bealeBFGSAnalyticAbs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *bealeBFGSAnalyticRiseTrend) add(x, xt, d *[2]float64, t, rise, fx float64) {
+	if bealeBFGSAnalyticDerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if bealeBFGSAnalyticAbs(rise) <= 64*bealeBFGSAnalyticUnitRoundoff*bealeBFGSAnalyticAbs(fx) || !bealeBFGSAnalyticFaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -551,6 +554,17 @@ func (r *bealeBFGSAnalyticRiseTrend) add(t, rise, fx float64, faithful bool) {
 // contradicts reports whether the trials showed a proportional rise.
 func (r *bealeBFGSAnalyticRiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// bealeBFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func bealeBFGSAnalyticFaithfulStep(x, xt, d *[2]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(bealeBFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*bealeBFGSAnalyticAbs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // bealeBFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: no
@@ -587,17 +601,6 @@ func bealeBFGSAnalyticMoveTo(out, x *[2]float64, t float64, d *[2]float64) {
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// bealeBFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func bealeBFGSAnalyticFaithfulStep(x, xt, d *[2]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(bealeBFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*bealeBFGSAnalyticAbs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // bealeBFGSAnalyticCurvatureMet is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)

@@ -201,11 +201,9 @@ func bealeCGAnalyticMinimize(x0 [2]float64, lim BealeCGAnalyticLimits) bealeCGAn
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// bealeCGAnalyticRiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// bealeCGAnalyticRiseTrend, which never reports that for differences).
 			out.status = BealeCGAnalyticStepTiny
-			if found.rising && bealeCGAnalyticDerivativeCost == 0 {
+			if found.rising {
 				out.status = BealeCGAnalyticNoDecrease
 			}
 			return out
@@ -446,7 +444,7 @@ func bealeCGAnalyticLineSearch(x *[2]float64, fx float64, d *[2]float64, slope, 
 		previous := low
 		if !bealeCGAnalyticFinite(current.value) || current.value > fx+bealeCGAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, bealeCGAnalyticFaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+bealeCGAnalyticDerivativeCost > budget {
 				return bealeCGAnalyticLineResult{calls: calls, end: bealeCGAnalyticSearchOutOfBudget}
@@ -523,11 +521,16 @@ type bealeCGAnalyticRiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *bealeCGAnalyticRiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || bealeCGAnalyticAbs(rise) <= 64*bealeCGAnalyticUnitRoundoff*bealeCGAnalyticAbs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *bealeCGAnalyticRiseTrend) add(x, xt, d *[2]float64, t, rise, fx float64) {
+	if bealeCGAnalyticDerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if bealeCGAnalyticAbs(rise) <= 64*bealeCGAnalyticUnitRoundoff*bealeCGAnalyticAbs(fx) || !bealeCGAnalyticFaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -543,6 +546,17 @@ func (r *bealeCGAnalyticRiseTrend) add(t, rise, fx float64, faithful bool) {
 // contradicts reports whether the trials showed a proportional rise.
 func (r *bealeCGAnalyticRiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// bealeCGAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func bealeCGAnalyticFaithfulStep(x, xt, d *[2]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(bealeCGAnalyticAbs(xt[i]-x[i]-want) <= 0.01*bealeCGAnalyticAbs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // bealeCGAnalyticTinyOrExhausted ends a search that has run below the step limit: no
@@ -579,17 +593,6 @@ func bealeCGAnalyticMoveTo(out, x *[2]float64, t float64, d *[2]float64) {
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// bealeCGAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func bealeCGAnalyticFaithfulStep(x, xt, d *[2]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(bealeCGAnalyticAbs(xt[i]-x[i]-want) <= 0.01*bealeCGAnalyticAbs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // bealeCGAnalyticCurvatureMet is the strong Wolfe curvature condition

@@ -202,11 +202,9 @@ func bealeCGCentralMinimize(x0 [2]float64, lim BealeCGCentralLimits) bealeCGCent
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// bealeCGCentralRiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// bealeCGCentralRiseTrend, which never reports that for differences).
 			out.status = BealeCGCentralStepTiny
-			if found.rising && bealeCGCentralDerivativeCost == 0 {
+			if found.rising {
 				out.status = BealeCGCentralNoDecrease
 			}
 			return out
@@ -464,7 +462,7 @@ func bealeCGCentralLineSearch(x *[2]float64, fx float64, d *[2]float64, slope, f
 		previous := low
 		if !bealeCGCentralFinite(current.value) || current.value > fx+bealeCGCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, bealeCGCentralFaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+bealeCGCentralDerivativeCost > budget {
 				return bealeCGCentralLineResult{calls: calls, end: bealeCGCentralSearchOutOfBudget}
@@ -541,11 +539,16 @@ type bealeCGCentralRiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *bealeCGCentralRiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || bealeCGCentralAbs(rise) <= 64*bealeCGCentralUnitRoundoff*bealeCGCentralAbs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *bealeCGCentralRiseTrend) add(x, xt, d *[2]float64, t, rise, fx float64) {
+	if bealeCGCentralDerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if bealeCGCentralAbs(rise) <= 64*bealeCGCentralUnitRoundoff*bealeCGCentralAbs(fx) || !bealeCGCentralFaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -561,6 +564,17 @@ func (r *bealeCGCentralRiseTrend) add(t, rise, fx float64, faithful bool) {
 // contradicts reports whether the trials showed a proportional rise.
 func (r *bealeCGCentralRiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// bealeCGCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func bealeCGCentralFaithfulStep(x, xt, d *[2]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(bealeCGCentralAbs(xt[i]-x[i]-want) <= 0.01*bealeCGCentralAbs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // bealeCGCentralTinyOrExhausted ends a search that has run below the step limit: no
@@ -597,17 +611,6 @@ func bealeCGCentralMoveTo(out, x *[2]float64, t float64, d *[2]float64) {
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// bealeCGCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func bealeCGCentralFaithfulStep(x, xt, d *[2]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(bealeCGCentralAbs(xt[i]-x[i]-want) <= 0.01*bealeCGCentralAbs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // bealeCGCentralCurvatureMet is the strong Wolfe curvature condition

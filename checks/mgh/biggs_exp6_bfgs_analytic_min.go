@@ -201,11 +201,9 @@ func biggsEXP6BFGSAnalyticMinimize(x0 [6]float64, lim BiggsEXP6BFGSAnalyticLimit
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// biggsEXP6BFGSAnalyticRiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// biggsEXP6BFGSAnalyticRiseTrend, which never reports that for differences).
 			out.status = BiggsEXP6BFGSAnalyticStepTiny
-			if found.rising && biggsEXP6BFGSAnalyticDerivativeCost == 0 {
+			if found.rising {
 				out.status = BiggsEXP6BFGSAnalyticNoDecrease
 			}
 			return out
@@ -454,7 +452,7 @@ func biggsEXP6BFGSAnalyticLineSearch(x *[6]float64, fx float64, d *[6]float64, s
 		previous := low
 		if !biggsEXP6BFGSAnalyticFinite(current.value) || current.value > fx+biggsEXP6BFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, biggsEXP6BFGSAnalyticFaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+biggsEXP6BFGSAnalyticDerivativeCost > budget {
 				return biggsEXP6BFGSAnalyticLineResult{calls: calls, end: biggsEXP6BFGSAnalyticSearchOutOfBudget}
@@ -531,11 +529,16 @@ type biggsEXP6BFGSAnalyticRiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *biggsEXP6BFGSAnalyticRiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || biggsEXP6BFGSAnalyticAbs(rise) <= 64*biggsEXP6BFGSAnalyticUnitRoundoff*biggsEXP6BFGSAnalyticAbs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *biggsEXP6BFGSAnalyticRiseTrend) add(x, xt, d *[6]float64, t, rise, fx float64) {
+	if biggsEXP6BFGSAnalyticDerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if biggsEXP6BFGSAnalyticAbs(rise) <= 64*biggsEXP6BFGSAnalyticUnitRoundoff*biggsEXP6BFGSAnalyticAbs(fx) || !biggsEXP6BFGSAnalyticFaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -551,6 +554,17 @@ func (r *biggsEXP6BFGSAnalyticRiseTrend) add(t, rise, fx float64, faithful bool)
 // contradicts reports whether the trials showed a proportional rise.
 func (r *biggsEXP6BFGSAnalyticRiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// biggsEXP6BFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func biggsEXP6BFGSAnalyticFaithfulStep(x, xt, d *[6]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(biggsEXP6BFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*biggsEXP6BFGSAnalyticAbs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // biggsEXP6BFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: no
@@ -587,17 +601,6 @@ func biggsEXP6BFGSAnalyticMoveTo(out, x *[6]float64, t float64, d *[6]float64) {
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// biggsEXP6BFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func biggsEXP6BFGSAnalyticFaithfulStep(x, xt, d *[6]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(biggsEXP6BFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*biggsEXP6BFGSAnalyticAbs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // biggsEXP6BFGSAnalyticCurvatureMet is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)

@@ -202,11 +202,9 @@ func biggsEXP6BFGSCentralMinimize(x0 [6]float64, lim BiggsEXP6BFGSCentralLimits)
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// biggsEXP6BFGSCentralRiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// biggsEXP6BFGSCentralRiseTrend, which never reports that for differences).
 			out.status = BiggsEXP6BFGSCentralStepTiny
-			if found.rising && biggsEXP6BFGSCentralDerivativeCost == 0 {
+			if found.rising {
 				out.status = BiggsEXP6BFGSCentralNoDecrease
 			}
 			return out
@@ -482,7 +480,7 @@ func biggsEXP6BFGSCentralLineSearch(x *[6]float64, fx float64, d *[6]float64, sl
 		previous := low
 		if !biggsEXP6BFGSCentralFinite(current.value) || current.value > fx+biggsEXP6BFGSCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, biggsEXP6BFGSCentralFaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+biggsEXP6BFGSCentralDerivativeCost > budget {
 				return biggsEXP6BFGSCentralLineResult{calls: calls, end: biggsEXP6BFGSCentralSearchOutOfBudget}
@@ -559,11 +557,16 @@ type biggsEXP6BFGSCentralRiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *biggsEXP6BFGSCentralRiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || biggsEXP6BFGSCentralAbs(rise) <= 64*biggsEXP6BFGSCentralUnitRoundoff*biggsEXP6BFGSCentralAbs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *biggsEXP6BFGSCentralRiseTrend) add(x, xt, d *[6]float64, t, rise, fx float64) {
+	if biggsEXP6BFGSCentralDerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if biggsEXP6BFGSCentralAbs(rise) <= 64*biggsEXP6BFGSCentralUnitRoundoff*biggsEXP6BFGSCentralAbs(fx) || !biggsEXP6BFGSCentralFaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -579,6 +582,17 @@ func (r *biggsEXP6BFGSCentralRiseTrend) add(t, rise, fx float64, faithful bool) 
 // contradicts reports whether the trials showed a proportional rise.
 func (r *biggsEXP6BFGSCentralRiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// biggsEXP6BFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func biggsEXP6BFGSCentralFaithfulStep(x, xt, d *[6]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(biggsEXP6BFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*biggsEXP6BFGSCentralAbs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // biggsEXP6BFGSCentralTinyOrExhausted ends a search that has run below the step limit: no
@@ -615,17 +629,6 @@ func biggsEXP6BFGSCentralMoveTo(out, x *[6]float64, t float64, d *[6]float64) {
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// biggsEXP6BFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func biggsEXP6BFGSCentralFaithfulStep(x, xt, d *[6]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(biggsEXP6BFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*biggsEXP6BFGSCentralAbs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // biggsEXP6BFGSCentralCurvatureMet is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)

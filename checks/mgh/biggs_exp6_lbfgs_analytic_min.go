@@ -202,11 +202,9 @@ func biggsEXP6LBFGSAnalyticMinimize(x0 [6]float64, lim BiggsEXP6LBFGSAnalyticLim
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// biggsEXP6LBFGSAnalyticRiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// biggsEXP6LBFGSAnalyticRiseTrend, which never reports that for differences).
 			out.status = BiggsEXP6LBFGSAnalyticStepTiny
-			if found.rising && biggsEXP6LBFGSAnalyticDerivativeCost == 0 {
+			if found.rising {
 				out.status = BiggsEXP6LBFGSAnalyticNoDecrease
 			}
 			return out
@@ -482,7 +480,7 @@ func biggsEXP6LBFGSAnalyticLineSearch(x *[6]float64, fx float64, d *[6]float64, 
 		previous := low
 		if !biggsEXP6LBFGSAnalyticFinite(current.value) || current.value > fx+biggsEXP6LBFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, biggsEXP6LBFGSAnalyticFaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+biggsEXP6LBFGSAnalyticDerivativeCost > budget {
 				return biggsEXP6LBFGSAnalyticLineResult{calls: calls, end: biggsEXP6LBFGSAnalyticSearchOutOfBudget}
@@ -559,11 +557,16 @@ type biggsEXP6LBFGSAnalyticRiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *biggsEXP6LBFGSAnalyticRiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || biggsEXP6LBFGSAnalyticAbs(rise) <= 64*biggsEXP6LBFGSAnalyticUnitRoundoff*biggsEXP6LBFGSAnalyticAbs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *biggsEXP6LBFGSAnalyticRiseTrend) add(x, xt, d *[6]float64, t, rise, fx float64) {
+	if biggsEXP6LBFGSAnalyticDerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if biggsEXP6LBFGSAnalyticAbs(rise) <= 64*biggsEXP6LBFGSAnalyticUnitRoundoff*biggsEXP6LBFGSAnalyticAbs(fx) || !biggsEXP6LBFGSAnalyticFaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -579,6 +582,17 @@ func (r *biggsEXP6LBFGSAnalyticRiseTrend) add(t, rise, fx float64, faithful bool
 // contradicts reports whether the trials showed a proportional rise.
 func (r *biggsEXP6LBFGSAnalyticRiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// biggsEXP6LBFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func biggsEXP6LBFGSAnalyticFaithfulStep(x, xt, d *[6]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(biggsEXP6LBFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*biggsEXP6LBFGSAnalyticAbs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // biggsEXP6LBFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: no
@@ -615,17 +629,6 @@ func biggsEXP6LBFGSAnalyticMoveTo(out, x *[6]float64, t float64, d *[6]float64) 
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// biggsEXP6LBFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func biggsEXP6LBFGSAnalyticFaithfulStep(x, xt, d *[6]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(biggsEXP6LBFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*biggsEXP6LBFGSAnalyticAbs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // biggsEXP6LBFGSAnalyticCurvatureMet is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)

@@ -201,11 +201,9 @@ func box3DCGAnalyticMinimize(x0 [3]float64, lim Box3DCGAnalyticLimits) box3DCGAn
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// box3DCGAnalyticRiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// box3DCGAnalyticRiseTrend, which never reports that for differences).
 			out.status = Box3DCGAnalyticStepTiny
-			if found.rising && box3DCGAnalyticDerivativeCost == 0 {
+			if found.rising {
 				out.status = Box3DCGAnalyticNoDecrease
 			}
 			return out
@@ -446,7 +444,7 @@ func box3DCGAnalyticLineSearch(x *[3]float64, fx float64, d *[3]float64, slope, 
 		previous := low
 		if !box3DCGAnalyticFinite(current.value) || current.value > fx+box3DCGAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, box3DCGAnalyticFaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+box3DCGAnalyticDerivativeCost > budget {
 				return box3DCGAnalyticLineResult{calls: calls, end: box3DCGAnalyticSearchOutOfBudget}
@@ -523,11 +521,16 @@ type box3DCGAnalyticRiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *box3DCGAnalyticRiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || box3DCGAnalyticAbs(rise) <= 64*box3DCGAnalyticUnitRoundoff*box3DCGAnalyticAbs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *box3DCGAnalyticRiseTrend) add(x, xt, d *[3]float64, t, rise, fx float64) {
+	if box3DCGAnalyticDerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if box3DCGAnalyticAbs(rise) <= 64*box3DCGAnalyticUnitRoundoff*box3DCGAnalyticAbs(fx) || !box3DCGAnalyticFaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -543,6 +546,17 @@ func (r *box3DCGAnalyticRiseTrend) add(t, rise, fx float64, faithful bool) {
 // contradicts reports whether the trials showed a proportional rise.
 func (r *box3DCGAnalyticRiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// box3DCGAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func box3DCGAnalyticFaithfulStep(x, xt, d *[3]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(box3DCGAnalyticAbs(xt[i]-x[i]-want) <= 0.01*box3DCGAnalyticAbs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // box3DCGAnalyticTinyOrExhausted ends a search that has run below the step limit: no
@@ -579,17 +593,6 @@ func box3DCGAnalyticMoveTo(out, x *[3]float64, t float64, d *[3]float64) {
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// box3DCGAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func box3DCGAnalyticFaithfulStep(x, xt, d *[3]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(box3DCGAnalyticAbs(xt[i]-x[i]-want) <= 0.01*box3DCGAnalyticAbs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // box3DCGAnalyticCurvatureMet is the strong Wolfe curvature condition

@@ -202,11 +202,9 @@ func box3DCGCentralMinimize(x0 [3]float64, lim Box3DCGCentralLimits) box3DCGCent
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// box3DCGCentralRiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// box3DCGCentralRiseTrend, which never reports that for differences).
 			out.status = Box3DCGCentralStepTiny
-			if found.rising && box3DCGCentralDerivativeCost == 0 {
+			if found.rising {
 				out.status = Box3DCGCentralNoDecrease
 			}
 			return out
@@ -464,7 +462,7 @@ func box3DCGCentralLineSearch(x *[3]float64, fx float64, d *[3]float64, slope, f
 		previous := low
 		if !box3DCGCentralFinite(current.value) || current.value > fx+box3DCGCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, box3DCGCentralFaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+box3DCGCentralDerivativeCost > budget {
 				return box3DCGCentralLineResult{calls: calls, end: box3DCGCentralSearchOutOfBudget}
@@ -541,11 +539,16 @@ type box3DCGCentralRiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *box3DCGCentralRiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || box3DCGCentralAbs(rise) <= 64*box3DCGCentralUnitRoundoff*box3DCGCentralAbs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *box3DCGCentralRiseTrend) add(x, xt, d *[3]float64, t, rise, fx float64) {
+	if box3DCGCentralDerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if box3DCGCentralAbs(rise) <= 64*box3DCGCentralUnitRoundoff*box3DCGCentralAbs(fx) || !box3DCGCentralFaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -561,6 +564,17 @@ func (r *box3DCGCentralRiseTrend) add(t, rise, fx float64, faithful bool) {
 // contradicts reports whether the trials showed a proportional rise.
 func (r *box3DCGCentralRiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// box3DCGCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func box3DCGCentralFaithfulStep(x, xt, d *[3]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(box3DCGCentralAbs(xt[i]-x[i]-want) <= 0.01*box3DCGCentralAbs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // box3DCGCentralTinyOrExhausted ends a search that has run below the step limit: no
@@ -597,17 +611,6 @@ func box3DCGCentralMoveTo(out, x *[3]float64, t float64, d *[3]float64) {
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// box3DCGCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func box3DCGCentralFaithfulStep(x, xt, d *[3]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(box3DCGCentralAbs(xt[i]-x[i]-want) <= 0.01*box3DCGCentralAbs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // box3DCGCentralCurvatureMet is the strong Wolfe curvature condition

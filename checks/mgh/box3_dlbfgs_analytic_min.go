@@ -202,11 +202,9 @@ func box3DLBFGSAnalyticMinimize(x0 [3]float64, lim Box3DLBFGSAnalyticLimits) box
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// box3DLBFGSAnalyticRiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// box3DLBFGSAnalyticRiseTrend, which never reports that for differences).
 			out.status = Box3DLBFGSAnalyticStepTiny
-			if found.rising && box3DLBFGSAnalyticDerivativeCost == 0 {
+			if found.rising {
 				out.status = Box3DLBFGSAnalyticNoDecrease
 			}
 			return out
@@ -482,7 +480,7 @@ func box3DLBFGSAnalyticLineSearch(x *[3]float64, fx float64, d *[3]float64, slop
 		previous := low
 		if !box3DLBFGSAnalyticFinite(current.value) || current.value > fx+box3DLBFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, box3DLBFGSAnalyticFaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+box3DLBFGSAnalyticDerivativeCost > budget {
 				return box3DLBFGSAnalyticLineResult{calls: calls, end: box3DLBFGSAnalyticSearchOutOfBudget}
@@ -559,11 +557,16 @@ type box3DLBFGSAnalyticRiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *box3DLBFGSAnalyticRiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || box3DLBFGSAnalyticAbs(rise) <= 64*box3DLBFGSAnalyticUnitRoundoff*box3DLBFGSAnalyticAbs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *box3DLBFGSAnalyticRiseTrend) add(x, xt, d *[3]float64, t, rise, fx float64) {
+	if box3DLBFGSAnalyticDerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if box3DLBFGSAnalyticAbs(rise) <= 64*box3DLBFGSAnalyticUnitRoundoff*box3DLBFGSAnalyticAbs(fx) || !box3DLBFGSAnalyticFaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -579,6 +582,17 @@ func (r *box3DLBFGSAnalyticRiseTrend) add(t, rise, fx float64, faithful bool) {
 // contradicts reports whether the trials showed a proportional rise.
 func (r *box3DLBFGSAnalyticRiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// box3DLBFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func box3DLBFGSAnalyticFaithfulStep(x, xt, d *[3]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(box3DLBFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*box3DLBFGSAnalyticAbs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // box3DLBFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: no
@@ -615,17 +629,6 @@ func box3DLBFGSAnalyticMoveTo(out, x *[3]float64, t float64, d *[3]float64) {
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// box3DLBFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func box3DLBFGSAnalyticFaithfulStep(x, xt, d *[3]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(box3DLBFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*box3DLBFGSAnalyticAbs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // box3DLBFGSAnalyticCurvatureMet is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)

@@ -201,11 +201,9 @@ func brownBadlyScaledBFGSAnalyticMinimize(x0 [2]float64, lim BrownBadlyScaledBFG
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// brownBadlyScaledBFGSAnalyticRiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// brownBadlyScaledBFGSAnalyticRiseTrend, which never reports that for differences).
 			out.status = BrownBadlyScaledBFGSAnalyticStepTiny
-			if found.rising && brownBadlyScaledBFGSAnalyticDerivativeCost == 0 {
+			if found.rising {
 				out.status = BrownBadlyScaledBFGSAnalyticNoDecrease
 			}
 			return out
@@ -454,7 +452,7 @@ func brownBadlyScaledBFGSAnalyticLineSearch(x *[2]float64, fx float64, d *[2]flo
 		previous := low
 		if !brownBadlyScaledBFGSAnalyticFinite(current.value) || current.value > fx+brownBadlyScaledBFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, brownBadlyScaledBFGSAnalyticFaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+brownBadlyScaledBFGSAnalyticDerivativeCost > budget {
 				return brownBadlyScaledBFGSAnalyticLineResult{calls: calls, end: brownBadlyScaledBFGSAnalyticSearchOutOfBudget}
@@ -531,11 +529,16 @@ type brownBadlyScaledBFGSAnalyticRiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *brownBadlyScaledBFGSAnalyticRiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || brownBadlyScaledBFGSAnalyticAbs(rise) <= 64*brownBadlyScaledBFGSAnalyticUnitRoundoff*brownBadlyScaledBFGSAnalyticAbs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *brownBadlyScaledBFGSAnalyticRiseTrend) add(x, xt, d *[2]float64, t, rise, fx float64) {
+	if brownBadlyScaledBFGSAnalyticDerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if brownBadlyScaledBFGSAnalyticAbs(rise) <= 64*brownBadlyScaledBFGSAnalyticUnitRoundoff*brownBadlyScaledBFGSAnalyticAbs(fx) || !brownBadlyScaledBFGSAnalyticFaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -551,6 +554,17 @@ func (r *brownBadlyScaledBFGSAnalyticRiseTrend) add(t, rise, fx float64, faithfu
 // contradicts reports whether the trials showed a proportional rise.
 func (r *brownBadlyScaledBFGSAnalyticRiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// brownBadlyScaledBFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func brownBadlyScaledBFGSAnalyticFaithfulStep(x, xt, d *[2]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(brownBadlyScaledBFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*brownBadlyScaledBFGSAnalyticAbs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // brownBadlyScaledBFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: no
@@ -587,17 +601,6 @@ func brownBadlyScaledBFGSAnalyticMoveTo(out, x *[2]float64, t float64, d *[2]flo
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// brownBadlyScaledBFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func brownBadlyScaledBFGSAnalyticFaithfulStep(x, xt, d *[2]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(brownBadlyScaledBFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*brownBadlyScaledBFGSAnalyticAbs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // brownBadlyScaledBFGSAnalyticCurvatureMet is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)

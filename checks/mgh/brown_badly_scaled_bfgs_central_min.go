@@ -202,11 +202,9 @@ func brownBadlyScaledBFGSCentralMinimize(x0 [2]float64, lim BrownBadlyScaledBFGS
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// brownBadlyScaledBFGSCentralRiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// brownBadlyScaledBFGSCentralRiseTrend, which never reports that for differences).
 			out.status = BrownBadlyScaledBFGSCentralStepTiny
-			if found.rising && brownBadlyScaledBFGSCentralDerivativeCost == 0 {
+			if found.rising {
 				out.status = BrownBadlyScaledBFGSCentralNoDecrease
 			}
 			return out
@@ -482,7 +480,7 @@ func brownBadlyScaledBFGSCentralLineSearch(x *[2]float64, fx float64, d *[2]floa
 		previous := low
 		if !brownBadlyScaledBFGSCentralFinite(current.value) || current.value > fx+brownBadlyScaledBFGSCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, brownBadlyScaledBFGSCentralFaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+brownBadlyScaledBFGSCentralDerivativeCost > budget {
 				return brownBadlyScaledBFGSCentralLineResult{calls: calls, end: brownBadlyScaledBFGSCentralSearchOutOfBudget}
@@ -559,11 +557,16 @@ type brownBadlyScaledBFGSCentralRiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *brownBadlyScaledBFGSCentralRiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || brownBadlyScaledBFGSCentralAbs(rise) <= 64*brownBadlyScaledBFGSCentralUnitRoundoff*brownBadlyScaledBFGSCentralAbs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *brownBadlyScaledBFGSCentralRiseTrend) add(x, xt, d *[2]float64, t, rise, fx float64) {
+	if brownBadlyScaledBFGSCentralDerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if brownBadlyScaledBFGSCentralAbs(rise) <= 64*brownBadlyScaledBFGSCentralUnitRoundoff*brownBadlyScaledBFGSCentralAbs(fx) || !brownBadlyScaledBFGSCentralFaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -579,6 +582,17 @@ func (r *brownBadlyScaledBFGSCentralRiseTrend) add(t, rise, fx float64, faithful
 // contradicts reports whether the trials showed a proportional rise.
 func (r *brownBadlyScaledBFGSCentralRiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// brownBadlyScaledBFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func brownBadlyScaledBFGSCentralFaithfulStep(x, xt, d *[2]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(brownBadlyScaledBFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*brownBadlyScaledBFGSCentralAbs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // brownBadlyScaledBFGSCentralTinyOrExhausted ends a search that has run below the step limit: no
@@ -615,17 +629,6 @@ func brownBadlyScaledBFGSCentralMoveTo(out, x *[2]float64, t float64, d *[2]floa
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// brownBadlyScaledBFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func brownBadlyScaledBFGSCentralFaithfulStep(x, xt, d *[2]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(brownBadlyScaledBFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*brownBadlyScaledBFGSCentralAbs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // brownBadlyScaledBFGSCentralCurvatureMet is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)

@@ -201,11 +201,9 @@ func brownBadlyScaledCGAnalyticMinimize(x0 [2]float64, lim BrownBadlyScaledCGAna
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// brownBadlyScaledCGAnalyticRiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// brownBadlyScaledCGAnalyticRiseTrend, which never reports that for differences).
 			out.status = BrownBadlyScaledCGAnalyticStepTiny
-			if found.rising && brownBadlyScaledCGAnalyticDerivativeCost == 0 {
+			if found.rising {
 				out.status = BrownBadlyScaledCGAnalyticNoDecrease
 			}
 			return out
@@ -446,7 +444,7 @@ func brownBadlyScaledCGAnalyticLineSearch(x *[2]float64, fx float64, d *[2]float
 		previous := low
 		if !brownBadlyScaledCGAnalyticFinite(current.value) || current.value > fx+brownBadlyScaledCGAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, brownBadlyScaledCGAnalyticFaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+brownBadlyScaledCGAnalyticDerivativeCost > budget {
 				return brownBadlyScaledCGAnalyticLineResult{calls: calls, end: brownBadlyScaledCGAnalyticSearchOutOfBudget}
@@ -523,11 +521,16 @@ type brownBadlyScaledCGAnalyticRiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *brownBadlyScaledCGAnalyticRiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || brownBadlyScaledCGAnalyticAbs(rise) <= 64*brownBadlyScaledCGAnalyticUnitRoundoff*brownBadlyScaledCGAnalyticAbs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *brownBadlyScaledCGAnalyticRiseTrend) add(x, xt, d *[2]float64, t, rise, fx float64) {
+	if brownBadlyScaledCGAnalyticDerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if brownBadlyScaledCGAnalyticAbs(rise) <= 64*brownBadlyScaledCGAnalyticUnitRoundoff*brownBadlyScaledCGAnalyticAbs(fx) || !brownBadlyScaledCGAnalyticFaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -543,6 +546,17 @@ func (r *brownBadlyScaledCGAnalyticRiseTrend) add(t, rise, fx float64, faithful 
 // contradicts reports whether the trials showed a proportional rise.
 func (r *brownBadlyScaledCGAnalyticRiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// brownBadlyScaledCGAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func brownBadlyScaledCGAnalyticFaithfulStep(x, xt, d *[2]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(brownBadlyScaledCGAnalyticAbs(xt[i]-x[i]-want) <= 0.01*brownBadlyScaledCGAnalyticAbs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // brownBadlyScaledCGAnalyticTinyOrExhausted ends a search that has run below the step limit: no
@@ -579,17 +593,6 @@ func brownBadlyScaledCGAnalyticMoveTo(out, x *[2]float64, t float64, d *[2]float
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// brownBadlyScaledCGAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func brownBadlyScaledCGAnalyticFaithfulStep(x, xt, d *[2]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(brownBadlyScaledCGAnalyticAbs(xt[i]-x[i]-want) <= 0.01*brownBadlyScaledCGAnalyticAbs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // brownBadlyScaledCGAnalyticCurvatureMet is the strong Wolfe curvature condition

@@ -202,11 +202,9 @@ func brownBadlyScaledLBFGSAnalyticMinimize(x0 [2]float64, lim BrownBadlyScaledLB
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// brownBadlyScaledLBFGSAnalyticRiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// brownBadlyScaledLBFGSAnalyticRiseTrend, which never reports that for differences).
 			out.status = BrownBadlyScaledLBFGSAnalyticStepTiny
-			if found.rising && brownBadlyScaledLBFGSAnalyticDerivativeCost == 0 {
+			if found.rising {
 				out.status = BrownBadlyScaledLBFGSAnalyticNoDecrease
 			}
 			return out
@@ -482,7 +480,7 @@ func brownBadlyScaledLBFGSAnalyticLineSearch(x *[2]float64, fx float64, d *[2]fl
 		previous := low
 		if !brownBadlyScaledLBFGSAnalyticFinite(current.value) || current.value > fx+brownBadlyScaledLBFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, brownBadlyScaledLBFGSAnalyticFaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+brownBadlyScaledLBFGSAnalyticDerivativeCost > budget {
 				return brownBadlyScaledLBFGSAnalyticLineResult{calls: calls, end: brownBadlyScaledLBFGSAnalyticSearchOutOfBudget}
@@ -559,11 +557,16 @@ type brownBadlyScaledLBFGSAnalyticRiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *brownBadlyScaledLBFGSAnalyticRiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || brownBadlyScaledLBFGSAnalyticAbs(rise) <= 64*brownBadlyScaledLBFGSAnalyticUnitRoundoff*brownBadlyScaledLBFGSAnalyticAbs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *brownBadlyScaledLBFGSAnalyticRiseTrend) add(x, xt, d *[2]float64, t, rise, fx float64) {
+	if brownBadlyScaledLBFGSAnalyticDerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if brownBadlyScaledLBFGSAnalyticAbs(rise) <= 64*brownBadlyScaledLBFGSAnalyticUnitRoundoff*brownBadlyScaledLBFGSAnalyticAbs(fx) || !brownBadlyScaledLBFGSAnalyticFaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -579,6 +582,17 @@ func (r *brownBadlyScaledLBFGSAnalyticRiseTrend) add(t, rise, fx float64, faithf
 // contradicts reports whether the trials showed a proportional rise.
 func (r *brownBadlyScaledLBFGSAnalyticRiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// brownBadlyScaledLBFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func brownBadlyScaledLBFGSAnalyticFaithfulStep(x, xt, d *[2]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(brownBadlyScaledLBFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*brownBadlyScaledLBFGSAnalyticAbs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // brownBadlyScaledLBFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: no
@@ -615,17 +629,6 @@ func brownBadlyScaledLBFGSAnalyticMoveTo(out, x *[2]float64, t float64, d *[2]fl
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// brownBadlyScaledLBFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func brownBadlyScaledLBFGSAnalyticFaithfulStep(x, xt, d *[2]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(brownBadlyScaledLBFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*brownBadlyScaledLBFGSAnalyticAbs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // brownBadlyScaledLBFGSAnalyticCurvatureMet is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)

@@ -203,11 +203,9 @@ func brownBadlyScaledLBFGSCentralMinimize(x0 [2]float64, lim BrownBadlyScaledLBF
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// brownBadlyScaledLBFGSCentralRiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// brownBadlyScaledLBFGSCentralRiseTrend, which never reports that for differences).
 			out.status = BrownBadlyScaledLBFGSCentralStepTiny
-			if found.rising && brownBadlyScaledLBFGSCentralDerivativeCost == 0 {
+			if found.rising {
 				out.status = BrownBadlyScaledLBFGSCentralNoDecrease
 			}
 			return out
@@ -510,7 +508,7 @@ func brownBadlyScaledLBFGSCentralLineSearch(x *[2]float64, fx float64, d *[2]flo
 		previous := low
 		if !brownBadlyScaledLBFGSCentralFinite(current.value) || current.value > fx+brownBadlyScaledLBFGSCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, brownBadlyScaledLBFGSCentralFaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+brownBadlyScaledLBFGSCentralDerivativeCost > budget {
 				return brownBadlyScaledLBFGSCentralLineResult{calls: calls, end: brownBadlyScaledLBFGSCentralSearchOutOfBudget}
@@ -587,11 +585,16 @@ type brownBadlyScaledLBFGSCentralRiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *brownBadlyScaledLBFGSCentralRiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || brownBadlyScaledLBFGSCentralAbs(rise) <= 64*brownBadlyScaledLBFGSCentralUnitRoundoff*brownBadlyScaledLBFGSCentralAbs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *brownBadlyScaledLBFGSCentralRiseTrend) add(x, xt, d *[2]float64, t, rise, fx float64) {
+	if brownBadlyScaledLBFGSCentralDerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if brownBadlyScaledLBFGSCentralAbs(rise) <= 64*brownBadlyScaledLBFGSCentralUnitRoundoff*brownBadlyScaledLBFGSCentralAbs(fx) || !brownBadlyScaledLBFGSCentralFaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -607,6 +610,17 @@ func (r *brownBadlyScaledLBFGSCentralRiseTrend) add(t, rise, fx float64, faithfu
 // contradicts reports whether the trials showed a proportional rise.
 func (r *brownBadlyScaledLBFGSCentralRiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// brownBadlyScaledLBFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func brownBadlyScaledLBFGSCentralFaithfulStep(x, xt, d *[2]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(brownBadlyScaledLBFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*brownBadlyScaledLBFGSCentralAbs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // brownBadlyScaledLBFGSCentralTinyOrExhausted ends a search that has run below the step limit: no
@@ -643,17 +657,6 @@ func brownBadlyScaledLBFGSCentralMoveTo(out, x *[2]float64, t float64, d *[2]flo
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// brownBadlyScaledLBFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func brownBadlyScaledLBFGSCentralFaithfulStep(x, xt, d *[2]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(brownBadlyScaledLBFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*brownBadlyScaledLBFGSCentralAbs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // brownBadlyScaledLBFGSCentralCurvatureMet is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)

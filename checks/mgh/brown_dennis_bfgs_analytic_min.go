@@ -201,11 +201,9 @@ func brownDennisBFGSAnalyticMinimize(x0 [4]float64, lim BrownDennisBFGSAnalyticL
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// brownDennisBFGSAnalyticRiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// brownDennisBFGSAnalyticRiseTrend, which never reports that for differences).
 			out.status = BrownDennisBFGSAnalyticStepTiny
-			if found.rising && brownDennisBFGSAnalyticDerivativeCost == 0 {
+			if found.rising {
 				out.status = BrownDennisBFGSAnalyticNoDecrease
 			}
 			return out
@@ -454,7 +452,7 @@ func brownDennisBFGSAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64,
 		previous := low
 		if !brownDennisBFGSAnalyticFinite(current.value) || current.value > fx+brownDennisBFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, brownDennisBFGSAnalyticFaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+brownDennisBFGSAnalyticDerivativeCost > budget {
 				return brownDennisBFGSAnalyticLineResult{calls: calls, end: brownDennisBFGSAnalyticSearchOutOfBudget}
@@ -531,11 +529,16 @@ type brownDennisBFGSAnalyticRiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *brownDennisBFGSAnalyticRiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || brownDennisBFGSAnalyticAbs(rise) <= 64*brownDennisBFGSAnalyticUnitRoundoff*brownDennisBFGSAnalyticAbs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *brownDennisBFGSAnalyticRiseTrend) add(x, xt, d *[4]float64, t, rise, fx float64) {
+	if brownDennisBFGSAnalyticDerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if brownDennisBFGSAnalyticAbs(rise) <= 64*brownDennisBFGSAnalyticUnitRoundoff*brownDennisBFGSAnalyticAbs(fx) || !brownDennisBFGSAnalyticFaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -551,6 +554,17 @@ func (r *brownDennisBFGSAnalyticRiseTrend) add(t, rise, fx float64, faithful boo
 // contradicts reports whether the trials showed a proportional rise.
 func (r *brownDennisBFGSAnalyticRiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// brownDennisBFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func brownDennisBFGSAnalyticFaithfulStep(x, xt, d *[4]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(brownDennisBFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*brownDennisBFGSAnalyticAbs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // brownDennisBFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: no
@@ -587,17 +601,6 @@ func brownDennisBFGSAnalyticMoveTo(out, x *[4]float64, t float64, d *[4]float64)
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// brownDennisBFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func brownDennisBFGSAnalyticFaithfulStep(x, xt, d *[4]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(brownDennisBFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*brownDennisBFGSAnalyticAbs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // brownDennisBFGSAnalyticCurvatureMet is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)

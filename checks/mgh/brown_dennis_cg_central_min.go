@@ -202,11 +202,9 @@ func brownDennisCGCentralMinimize(x0 [4]float64, lim BrownDennisCGCentralLimits)
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// brownDennisCGCentralRiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// brownDennisCGCentralRiseTrend, which never reports that for differences).
 			out.status = BrownDennisCGCentralStepTiny
-			if found.rising && brownDennisCGCentralDerivativeCost == 0 {
+			if found.rising {
 				out.status = BrownDennisCGCentralNoDecrease
 			}
 			return out
@@ -464,7 +462,7 @@ func brownDennisCGCentralLineSearch(x *[4]float64, fx float64, d *[4]float64, sl
 		previous := low
 		if !brownDennisCGCentralFinite(current.value) || current.value > fx+brownDennisCGCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, brownDennisCGCentralFaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+brownDennisCGCentralDerivativeCost > budget {
 				return brownDennisCGCentralLineResult{calls: calls, end: brownDennisCGCentralSearchOutOfBudget}
@@ -541,11 +539,16 @@ type brownDennisCGCentralRiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *brownDennisCGCentralRiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || brownDennisCGCentralAbs(rise) <= 64*brownDennisCGCentralUnitRoundoff*brownDennisCGCentralAbs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *brownDennisCGCentralRiseTrend) add(x, xt, d *[4]float64, t, rise, fx float64) {
+	if brownDennisCGCentralDerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if brownDennisCGCentralAbs(rise) <= 64*brownDennisCGCentralUnitRoundoff*brownDennisCGCentralAbs(fx) || !brownDennisCGCentralFaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -561,6 +564,17 @@ func (r *brownDennisCGCentralRiseTrend) add(t, rise, fx float64, faithful bool) 
 // contradicts reports whether the trials showed a proportional rise.
 func (r *brownDennisCGCentralRiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// brownDennisCGCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func brownDennisCGCentralFaithfulStep(x, xt, d *[4]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(brownDennisCGCentralAbs(xt[i]-x[i]-want) <= 0.01*brownDennisCGCentralAbs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // brownDennisCGCentralTinyOrExhausted ends a search that has run below the step limit: no
@@ -597,17 +611,6 @@ func brownDennisCGCentralMoveTo(out, x *[4]float64, t float64, d *[4]float64) {
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// brownDennisCGCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func brownDennisCGCentralFaithfulStep(x, xt, d *[4]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(brownDennisCGCentralAbs(xt[i]-x[i]-want) <= 0.01*brownDennisCGCentralAbs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // brownDennisCGCentralCurvatureMet is the strong Wolfe curvature condition

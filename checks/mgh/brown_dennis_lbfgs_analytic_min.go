@@ -202,11 +202,9 @@ func brownDennisLBFGSAnalyticMinimize(x0 [4]float64, lim BrownDennisLBFGSAnalyti
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// brownDennisLBFGSAnalyticRiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// brownDennisLBFGSAnalyticRiseTrend, which never reports that for differences).
 			out.status = BrownDennisLBFGSAnalyticStepTiny
-			if found.rising && brownDennisLBFGSAnalyticDerivativeCost == 0 {
+			if found.rising {
 				out.status = BrownDennisLBFGSAnalyticNoDecrease
 			}
 			return out
@@ -482,7 +480,7 @@ func brownDennisLBFGSAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64
 		previous := low
 		if !brownDennisLBFGSAnalyticFinite(current.value) || current.value > fx+brownDennisLBFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, brownDennisLBFGSAnalyticFaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+brownDennisLBFGSAnalyticDerivativeCost > budget {
 				return brownDennisLBFGSAnalyticLineResult{calls: calls, end: brownDennisLBFGSAnalyticSearchOutOfBudget}
@@ -559,11 +557,16 @@ type brownDennisLBFGSAnalyticRiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *brownDennisLBFGSAnalyticRiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || brownDennisLBFGSAnalyticAbs(rise) <= 64*brownDennisLBFGSAnalyticUnitRoundoff*brownDennisLBFGSAnalyticAbs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *brownDennisLBFGSAnalyticRiseTrend) add(x, xt, d *[4]float64, t, rise, fx float64) {
+	if brownDennisLBFGSAnalyticDerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if brownDennisLBFGSAnalyticAbs(rise) <= 64*brownDennisLBFGSAnalyticUnitRoundoff*brownDennisLBFGSAnalyticAbs(fx) || !brownDennisLBFGSAnalyticFaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -579,6 +582,17 @@ func (r *brownDennisLBFGSAnalyticRiseTrend) add(t, rise, fx float64, faithful bo
 // contradicts reports whether the trials showed a proportional rise.
 func (r *brownDennisLBFGSAnalyticRiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// brownDennisLBFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func brownDennisLBFGSAnalyticFaithfulStep(x, xt, d *[4]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(brownDennisLBFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*brownDennisLBFGSAnalyticAbs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // brownDennisLBFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: no
@@ -615,17 +629,6 @@ func brownDennisLBFGSAnalyticMoveTo(out, x *[4]float64, t float64, d *[4]float64
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// brownDennisLBFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func brownDennisLBFGSAnalyticFaithfulStep(x, xt, d *[4]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(brownDennisLBFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*brownDennisLBFGSAnalyticAbs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // brownDennisLBFGSAnalyticCurvatureMet is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)

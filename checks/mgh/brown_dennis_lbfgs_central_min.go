@@ -203,11 +203,9 @@ func brownDennisLBFGSCentralMinimize(x0 [4]float64, lim BrownDennisLBFGSCentralL
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// brownDennisLBFGSCentralRiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// brownDennisLBFGSCentralRiseTrend, which never reports that for differences).
 			out.status = BrownDennisLBFGSCentralStepTiny
-			if found.rising && brownDennisLBFGSCentralDerivativeCost == 0 {
+			if found.rising {
 				out.status = BrownDennisLBFGSCentralNoDecrease
 			}
 			return out
@@ -510,7 +508,7 @@ func brownDennisLBFGSCentralLineSearch(x *[4]float64, fx float64, d *[4]float64,
 		previous := low
 		if !brownDennisLBFGSCentralFinite(current.value) || current.value > fx+brownDennisLBFGSCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, brownDennisLBFGSCentralFaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+brownDennisLBFGSCentralDerivativeCost > budget {
 				return brownDennisLBFGSCentralLineResult{calls: calls, end: brownDennisLBFGSCentralSearchOutOfBudget}
@@ -587,11 +585,16 @@ type brownDennisLBFGSCentralRiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *brownDennisLBFGSCentralRiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || brownDennisLBFGSCentralAbs(rise) <= 64*brownDennisLBFGSCentralUnitRoundoff*brownDennisLBFGSCentralAbs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *brownDennisLBFGSCentralRiseTrend) add(x, xt, d *[4]float64, t, rise, fx float64) {
+	if brownDennisLBFGSCentralDerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if brownDennisLBFGSCentralAbs(rise) <= 64*brownDennisLBFGSCentralUnitRoundoff*brownDennisLBFGSCentralAbs(fx) || !brownDennisLBFGSCentralFaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -607,6 +610,17 @@ func (r *brownDennisLBFGSCentralRiseTrend) add(t, rise, fx float64, faithful boo
 // contradicts reports whether the trials showed a proportional rise.
 func (r *brownDennisLBFGSCentralRiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// brownDennisLBFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func brownDennisLBFGSCentralFaithfulStep(x, xt, d *[4]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(brownDennisLBFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*brownDennisLBFGSCentralAbs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // brownDennisLBFGSCentralTinyOrExhausted ends a search that has run below the step limit: no
@@ -643,17 +657,6 @@ func brownDennisLBFGSCentralMoveTo(out, x *[4]float64, t float64, d *[4]float64)
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// brownDennisLBFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func brownDennisLBFGSCentralFaithfulStep(x, xt, d *[4]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(brownDennisLBFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*brownDennisLBFGSCentralAbs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // brownDennisLBFGSCentralCurvatureMet is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)

@@ -202,11 +202,9 @@ func gaussianBFGSCentralMinimize(x0 [3]float64, lim GaussianBFGSCentralLimits) g
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// gaussianBFGSCentralRiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// gaussianBFGSCentralRiseTrend, which never reports that for differences).
 			out.status = GaussianBFGSCentralStepTiny
-			if found.rising && gaussianBFGSCentralDerivativeCost == 0 {
+			if found.rising {
 				out.status = GaussianBFGSCentralNoDecrease
 			}
 			return out
@@ -482,7 +480,7 @@ func gaussianBFGSCentralLineSearch(x *[3]float64, fx float64, d *[3]float64, slo
 		previous := low
 		if !gaussianBFGSCentralFinite(current.value) || current.value > fx+gaussianBFGSCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, gaussianBFGSCentralFaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+gaussianBFGSCentralDerivativeCost > budget {
 				return gaussianBFGSCentralLineResult{calls: calls, end: gaussianBFGSCentralSearchOutOfBudget}
@@ -559,11 +557,16 @@ type gaussianBFGSCentralRiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *gaussianBFGSCentralRiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || gaussianBFGSCentralAbs(rise) <= 64*gaussianBFGSCentralUnitRoundoff*gaussianBFGSCentralAbs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *gaussianBFGSCentralRiseTrend) add(x, xt, d *[3]float64, t, rise, fx float64) {
+	if gaussianBFGSCentralDerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if gaussianBFGSCentralAbs(rise) <= 64*gaussianBFGSCentralUnitRoundoff*gaussianBFGSCentralAbs(fx) || !gaussianBFGSCentralFaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -579,6 +582,17 @@ func (r *gaussianBFGSCentralRiseTrend) add(t, rise, fx float64, faithful bool) {
 // contradicts reports whether the trials showed a proportional rise.
 func (r *gaussianBFGSCentralRiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// gaussianBFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func gaussianBFGSCentralFaithfulStep(x, xt, d *[3]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(gaussianBFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*gaussianBFGSCentralAbs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // gaussianBFGSCentralTinyOrExhausted ends a search that has run below the step limit: no
@@ -615,17 +629,6 @@ func gaussianBFGSCentralMoveTo(out, x *[3]float64, t float64, d *[3]float64) {
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// gaussianBFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func gaussianBFGSCentralFaithfulStep(x, xt, d *[3]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(gaussianBFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*gaussianBFGSCentralAbs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // gaussianBFGSCentralCurvatureMet is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)

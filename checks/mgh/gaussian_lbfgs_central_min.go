@@ -203,11 +203,9 @@ func gaussianLBFGSCentralMinimize(x0 [3]float64, lim GaussianLBFGSCentralLimits)
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// gaussianLBFGSCentralRiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// gaussianLBFGSCentralRiseTrend, which never reports that for differences).
 			out.status = GaussianLBFGSCentralStepTiny
-			if found.rising && gaussianLBFGSCentralDerivativeCost == 0 {
+			if found.rising {
 				out.status = GaussianLBFGSCentralNoDecrease
 			}
 			return out
@@ -510,7 +508,7 @@ func gaussianLBFGSCentralLineSearch(x *[3]float64, fx float64, d *[3]float64, sl
 		previous := low
 		if !gaussianLBFGSCentralFinite(current.value) || current.value > fx+gaussianLBFGSCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, gaussianLBFGSCentralFaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+gaussianLBFGSCentralDerivativeCost > budget {
 				return gaussianLBFGSCentralLineResult{calls: calls, end: gaussianLBFGSCentralSearchOutOfBudget}
@@ -587,11 +585,16 @@ type gaussianLBFGSCentralRiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *gaussianLBFGSCentralRiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || gaussianLBFGSCentralAbs(rise) <= 64*gaussianLBFGSCentralUnitRoundoff*gaussianLBFGSCentralAbs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *gaussianLBFGSCentralRiseTrend) add(x, xt, d *[3]float64, t, rise, fx float64) {
+	if gaussianLBFGSCentralDerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if gaussianLBFGSCentralAbs(rise) <= 64*gaussianLBFGSCentralUnitRoundoff*gaussianLBFGSCentralAbs(fx) || !gaussianLBFGSCentralFaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -607,6 +610,17 @@ func (r *gaussianLBFGSCentralRiseTrend) add(t, rise, fx float64, faithful bool) 
 // contradicts reports whether the trials showed a proportional rise.
 func (r *gaussianLBFGSCentralRiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// gaussianLBFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func gaussianLBFGSCentralFaithfulStep(x, xt, d *[3]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(gaussianLBFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*gaussianLBFGSCentralAbs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // gaussianLBFGSCentralTinyOrExhausted ends a search that has run below the step limit: no
@@ -643,17 +657,6 @@ func gaussianLBFGSCentralMoveTo(out, x *[3]float64, t float64, d *[3]float64) {
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// gaussianLBFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func gaussianLBFGSCentralFaithfulStep(x, xt, d *[3]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(gaussianLBFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*gaussianLBFGSCentralAbs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // gaussianLBFGSCentralCurvatureMet is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)

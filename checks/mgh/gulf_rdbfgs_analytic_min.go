@@ -201,11 +201,9 @@ func gulfRDBFGSAnalyticMinimize(x0 [3]float64, lim GulfRDBFGSAnalyticLimits) gul
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// gulfRDBFGSAnalyticRiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// gulfRDBFGSAnalyticRiseTrend, which never reports that for differences).
 			out.status = GulfRDBFGSAnalyticStepTiny
-			if found.rising && gulfRDBFGSAnalyticDerivativeCost == 0 {
+			if found.rising {
 				out.status = GulfRDBFGSAnalyticNoDecrease
 			}
 			return out
@@ -454,7 +452,7 @@ func gulfRDBFGSAnalyticLineSearch(x *[3]float64, fx float64, d *[3]float64, slop
 		previous := low
 		if !gulfRDBFGSAnalyticFinite(current.value) || current.value > fx+gulfRDBFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, gulfRDBFGSAnalyticFaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+gulfRDBFGSAnalyticDerivativeCost > budget {
 				return gulfRDBFGSAnalyticLineResult{calls: calls, end: gulfRDBFGSAnalyticSearchOutOfBudget}
@@ -531,11 +529,16 @@ type gulfRDBFGSAnalyticRiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *gulfRDBFGSAnalyticRiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || gulfRDBFGSAnalyticAbs(rise) <= 64*gulfRDBFGSAnalyticUnitRoundoff*gulfRDBFGSAnalyticAbs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *gulfRDBFGSAnalyticRiseTrend) add(x, xt, d *[3]float64, t, rise, fx float64) {
+	if gulfRDBFGSAnalyticDerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if gulfRDBFGSAnalyticAbs(rise) <= 64*gulfRDBFGSAnalyticUnitRoundoff*gulfRDBFGSAnalyticAbs(fx) || !gulfRDBFGSAnalyticFaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -551,6 +554,17 @@ func (r *gulfRDBFGSAnalyticRiseTrend) add(t, rise, fx float64, faithful bool) {
 // contradicts reports whether the trials showed a proportional rise.
 func (r *gulfRDBFGSAnalyticRiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// gulfRDBFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func gulfRDBFGSAnalyticFaithfulStep(x, xt, d *[3]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(gulfRDBFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*gulfRDBFGSAnalyticAbs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // gulfRDBFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: no
@@ -587,17 +601,6 @@ func gulfRDBFGSAnalyticMoveTo(out, x *[3]float64, t float64, d *[3]float64) {
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// gulfRDBFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func gulfRDBFGSAnalyticFaithfulStep(x, xt, d *[3]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(gulfRDBFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*gulfRDBFGSAnalyticAbs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // gulfRDBFGSAnalyticCurvatureMet is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)

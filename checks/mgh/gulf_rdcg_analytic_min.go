@@ -201,11 +201,9 @@ func gulfRDCGAnalyticMinimize(x0 [3]float64, lim GulfRDCGAnalyticLimits) gulfRDC
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// gulfRDCGAnalyticRiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// gulfRDCGAnalyticRiseTrend, which never reports that for differences).
 			out.status = GulfRDCGAnalyticStepTiny
-			if found.rising && gulfRDCGAnalyticDerivativeCost == 0 {
+			if found.rising {
 				out.status = GulfRDCGAnalyticNoDecrease
 			}
 			return out
@@ -446,7 +444,7 @@ func gulfRDCGAnalyticLineSearch(x *[3]float64, fx float64, d *[3]float64, slope,
 		previous := low
 		if !gulfRDCGAnalyticFinite(current.value) || current.value > fx+gulfRDCGAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, gulfRDCGAnalyticFaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+gulfRDCGAnalyticDerivativeCost > budget {
 				return gulfRDCGAnalyticLineResult{calls: calls, end: gulfRDCGAnalyticSearchOutOfBudget}
@@ -523,11 +521,16 @@ type gulfRDCGAnalyticRiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *gulfRDCGAnalyticRiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || gulfRDCGAnalyticAbs(rise) <= 64*gulfRDCGAnalyticUnitRoundoff*gulfRDCGAnalyticAbs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *gulfRDCGAnalyticRiseTrend) add(x, xt, d *[3]float64, t, rise, fx float64) {
+	if gulfRDCGAnalyticDerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if gulfRDCGAnalyticAbs(rise) <= 64*gulfRDCGAnalyticUnitRoundoff*gulfRDCGAnalyticAbs(fx) || !gulfRDCGAnalyticFaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -543,6 +546,17 @@ func (r *gulfRDCGAnalyticRiseTrend) add(t, rise, fx float64, faithful bool) {
 // contradicts reports whether the trials showed a proportional rise.
 func (r *gulfRDCGAnalyticRiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// gulfRDCGAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func gulfRDCGAnalyticFaithfulStep(x, xt, d *[3]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(gulfRDCGAnalyticAbs(xt[i]-x[i]-want) <= 0.01*gulfRDCGAnalyticAbs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // gulfRDCGAnalyticTinyOrExhausted ends a search that has run below the step limit: no
@@ -579,17 +593,6 @@ func gulfRDCGAnalyticMoveTo(out, x *[3]float64, t float64, d *[3]float64) {
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// gulfRDCGAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func gulfRDCGAnalyticFaithfulStep(x, xt, d *[3]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(gulfRDCGAnalyticAbs(xt[i]-x[i]-want) <= 0.01*gulfRDCGAnalyticAbs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // gulfRDCGAnalyticCurvatureMet is the strong Wolfe curvature condition

@@ -202,11 +202,9 @@ func gulfRDCGCentralMinimize(x0 [3]float64, lim GulfRDCGCentralLimits) gulfRDCGC
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// gulfRDCGCentralRiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// gulfRDCGCentralRiseTrend, which never reports that for differences).
 			out.status = GulfRDCGCentralStepTiny
-			if found.rising && gulfRDCGCentralDerivativeCost == 0 {
+			if found.rising {
 				out.status = GulfRDCGCentralNoDecrease
 			}
 			return out
@@ -464,7 +462,7 @@ func gulfRDCGCentralLineSearch(x *[3]float64, fx float64, d *[3]float64, slope, 
 		previous := low
 		if !gulfRDCGCentralFinite(current.value) || current.value > fx+gulfRDCGCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, gulfRDCGCentralFaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+gulfRDCGCentralDerivativeCost > budget {
 				return gulfRDCGCentralLineResult{calls: calls, end: gulfRDCGCentralSearchOutOfBudget}
@@ -541,11 +539,16 @@ type gulfRDCGCentralRiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *gulfRDCGCentralRiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || gulfRDCGCentralAbs(rise) <= 64*gulfRDCGCentralUnitRoundoff*gulfRDCGCentralAbs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *gulfRDCGCentralRiseTrend) add(x, xt, d *[3]float64, t, rise, fx float64) {
+	if gulfRDCGCentralDerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if gulfRDCGCentralAbs(rise) <= 64*gulfRDCGCentralUnitRoundoff*gulfRDCGCentralAbs(fx) || !gulfRDCGCentralFaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -561,6 +564,17 @@ func (r *gulfRDCGCentralRiseTrend) add(t, rise, fx float64, faithful bool) {
 // contradicts reports whether the trials showed a proportional rise.
 func (r *gulfRDCGCentralRiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// gulfRDCGCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func gulfRDCGCentralFaithfulStep(x, xt, d *[3]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(gulfRDCGCentralAbs(xt[i]-x[i]-want) <= 0.01*gulfRDCGCentralAbs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // gulfRDCGCentralTinyOrExhausted ends a search that has run below the step limit: no
@@ -597,17 +611,6 @@ func gulfRDCGCentralMoveTo(out, x *[3]float64, t float64, d *[3]float64) {
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// gulfRDCGCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func gulfRDCGCentralFaithfulStep(x, xt, d *[3]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(gulfRDCGCentralAbs(xt[i]-x[i]-want) <= 0.01*gulfRDCGCentralAbs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // gulfRDCGCentralCurvatureMet is the strong Wolfe curvature condition

@@ -203,11 +203,9 @@ func gulfRDLBFGSCentralMinimize(x0 [3]float64, lim GulfRDLBFGSCentralLimits) gul
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// gulfRDLBFGSCentralRiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// gulfRDLBFGSCentralRiseTrend, which never reports that for differences).
 			out.status = GulfRDLBFGSCentralStepTiny
-			if found.rising && gulfRDLBFGSCentralDerivativeCost == 0 {
+			if found.rising {
 				out.status = GulfRDLBFGSCentralNoDecrease
 			}
 			return out
@@ -510,7 +508,7 @@ func gulfRDLBFGSCentralLineSearch(x *[3]float64, fx float64, d *[3]float64, slop
 		previous := low
 		if !gulfRDLBFGSCentralFinite(current.value) || current.value > fx+gulfRDLBFGSCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, gulfRDLBFGSCentralFaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+gulfRDLBFGSCentralDerivativeCost > budget {
 				return gulfRDLBFGSCentralLineResult{calls: calls, end: gulfRDLBFGSCentralSearchOutOfBudget}
@@ -587,11 +585,16 @@ type gulfRDLBFGSCentralRiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *gulfRDLBFGSCentralRiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || gulfRDLBFGSCentralAbs(rise) <= 64*gulfRDLBFGSCentralUnitRoundoff*gulfRDLBFGSCentralAbs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *gulfRDLBFGSCentralRiseTrend) add(x, xt, d *[3]float64, t, rise, fx float64) {
+	if gulfRDLBFGSCentralDerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if gulfRDLBFGSCentralAbs(rise) <= 64*gulfRDLBFGSCentralUnitRoundoff*gulfRDLBFGSCentralAbs(fx) || !gulfRDLBFGSCentralFaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -607,6 +610,17 @@ func (r *gulfRDLBFGSCentralRiseTrend) add(t, rise, fx float64, faithful bool) {
 // contradicts reports whether the trials showed a proportional rise.
 func (r *gulfRDLBFGSCentralRiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// gulfRDLBFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func gulfRDLBFGSCentralFaithfulStep(x, xt, d *[3]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(gulfRDLBFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*gulfRDLBFGSCentralAbs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // gulfRDLBFGSCentralTinyOrExhausted ends a search that has run below the step limit: no
@@ -643,17 +657,6 @@ func gulfRDLBFGSCentralMoveTo(out, x *[3]float64, t float64, d *[3]float64) {
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// gulfRDLBFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func gulfRDLBFGSCentralFaithfulStep(x, xt, d *[3]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(gulfRDLBFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*gulfRDLBFGSCentralAbs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // gulfRDLBFGSCentralCurvatureMet is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)

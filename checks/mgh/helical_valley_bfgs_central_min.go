@@ -202,11 +202,9 @@ func helicalValleyBFGSCentralMinimize(x0 [3]float64, lim HelicalValleyBFGSCentra
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// helicalValleyBFGSCentralRiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// helicalValleyBFGSCentralRiseTrend, which never reports that for differences).
 			out.status = HelicalValleyBFGSCentralStepTiny
-			if found.rising && helicalValleyBFGSCentralDerivativeCost == 0 {
+			if found.rising {
 				out.status = HelicalValleyBFGSCentralNoDecrease
 			}
 			return out
@@ -482,7 +480,7 @@ func helicalValleyBFGSCentralLineSearch(x *[3]float64, fx float64, d *[3]float64
 		previous := low
 		if !helicalValleyBFGSCentralFinite(current.value) || current.value > fx+helicalValleyBFGSCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, helicalValleyBFGSCentralFaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+helicalValleyBFGSCentralDerivativeCost > budget {
 				return helicalValleyBFGSCentralLineResult{calls: calls, end: helicalValleyBFGSCentralSearchOutOfBudget}
@@ -559,11 +557,16 @@ type helicalValleyBFGSCentralRiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *helicalValleyBFGSCentralRiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || helicalValleyBFGSCentralAbs(rise) <= 64*helicalValleyBFGSCentralUnitRoundoff*helicalValleyBFGSCentralAbs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *helicalValleyBFGSCentralRiseTrend) add(x, xt, d *[3]float64, t, rise, fx float64) {
+	if helicalValleyBFGSCentralDerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if helicalValleyBFGSCentralAbs(rise) <= 64*helicalValleyBFGSCentralUnitRoundoff*helicalValleyBFGSCentralAbs(fx) || !helicalValleyBFGSCentralFaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -579,6 +582,17 @@ func (r *helicalValleyBFGSCentralRiseTrend) add(t, rise, fx float64, faithful bo
 // contradicts reports whether the trials showed a proportional rise.
 func (r *helicalValleyBFGSCentralRiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// helicalValleyBFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func helicalValleyBFGSCentralFaithfulStep(x, xt, d *[3]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(helicalValleyBFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*helicalValleyBFGSCentralAbs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // helicalValleyBFGSCentralTinyOrExhausted ends a search that has run below the step limit: no
@@ -615,17 +629,6 @@ func helicalValleyBFGSCentralMoveTo(out, x *[3]float64, t float64, d *[3]float64
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// helicalValleyBFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func helicalValleyBFGSCentralFaithfulStep(x, xt, d *[3]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(helicalValleyBFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*helicalValleyBFGSCentralAbs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // helicalValleyBFGSCentralCurvatureMet is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)

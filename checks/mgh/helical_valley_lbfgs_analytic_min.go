@@ -202,11 +202,9 @@ func helicalValleyLBFGSAnalyticMinimize(x0 [3]float64, lim HelicalValleyLBFGSAna
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// helicalValleyLBFGSAnalyticRiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// helicalValleyLBFGSAnalyticRiseTrend, which never reports that for differences).
 			out.status = HelicalValleyLBFGSAnalyticStepTiny
-			if found.rising && helicalValleyLBFGSAnalyticDerivativeCost == 0 {
+			if found.rising {
 				out.status = HelicalValleyLBFGSAnalyticNoDecrease
 			}
 			return out
@@ -482,7 +480,7 @@ func helicalValleyLBFGSAnalyticLineSearch(x *[3]float64, fx float64, d *[3]float
 		previous := low
 		if !helicalValleyLBFGSAnalyticFinite(current.value) || current.value > fx+helicalValleyLBFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, helicalValleyLBFGSAnalyticFaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+helicalValleyLBFGSAnalyticDerivativeCost > budget {
 				return helicalValleyLBFGSAnalyticLineResult{calls: calls, end: helicalValleyLBFGSAnalyticSearchOutOfBudget}
@@ -559,11 +557,16 @@ type helicalValleyLBFGSAnalyticRiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *helicalValleyLBFGSAnalyticRiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || helicalValleyLBFGSAnalyticAbs(rise) <= 64*helicalValleyLBFGSAnalyticUnitRoundoff*helicalValleyLBFGSAnalyticAbs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *helicalValleyLBFGSAnalyticRiseTrend) add(x, xt, d *[3]float64, t, rise, fx float64) {
+	if helicalValleyLBFGSAnalyticDerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if helicalValleyLBFGSAnalyticAbs(rise) <= 64*helicalValleyLBFGSAnalyticUnitRoundoff*helicalValleyLBFGSAnalyticAbs(fx) || !helicalValleyLBFGSAnalyticFaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -579,6 +582,17 @@ func (r *helicalValleyLBFGSAnalyticRiseTrend) add(t, rise, fx float64, faithful 
 // contradicts reports whether the trials showed a proportional rise.
 func (r *helicalValleyLBFGSAnalyticRiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// helicalValleyLBFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func helicalValleyLBFGSAnalyticFaithfulStep(x, xt, d *[3]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(helicalValleyLBFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*helicalValleyLBFGSAnalyticAbs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // helicalValleyLBFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: no
@@ -615,17 +629,6 @@ func helicalValleyLBFGSAnalyticMoveTo(out, x *[3]float64, t float64, d *[3]float
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// helicalValleyLBFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func helicalValleyLBFGSAnalyticFaithfulStep(x, xt, d *[3]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(helicalValleyLBFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*helicalValleyLBFGSAnalyticAbs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // helicalValleyLBFGSAnalyticCurvatureMet is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)

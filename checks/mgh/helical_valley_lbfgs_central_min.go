@@ -203,11 +203,9 @@ func helicalValleyLBFGSCentralMinimize(x0 [3]float64, lim HelicalValleyLBFGSCent
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// helicalValleyLBFGSCentralRiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// helicalValleyLBFGSCentralRiseTrend, which never reports that for differences).
 			out.status = HelicalValleyLBFGSCentralStepTiny
-			if found.rising && helicalValleyLBFGSCentralDerivativeCost == 0 {
+			if found.rising {
 				out.status = HelicalValleyLBFGSCentralNoDecrease
 			}
 			return out
@@ -510,7 +508,7 @@ func helicalValleyLBFGSCentralLineSearch(x *[3]float64, fx float64, d *[3]float6
 		previous := low
 		if !helicalValleyLBFGSCentralFinite(current.value) || current.value > fx+helicalValleyLBFGSCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, helicalValleyLBFGSCentralFaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+helicalValleyLBFGSCentralDerivativeCost > budget {
 				return helicalValleyLBFGSCentralLineResult{calls: calls, end: helicalValleyLBFGSCentralSearchOutOfBudget}
@@ -587,11 +585,16 @@ type helicalValleyLBFGSCentralRiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *helicalValleyLBFGSCentralRiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || helicalValleyLBFGSCentralAbs(rise) <= 64*helicalValleyLBFGSCentralUnitRoundoff*helicalValleyLBFGSCentralAbs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *helicalValleyLBFGSCentralRiseTrend) add(x, xt, d *[3]float64, t, rise, fx float64) {
+	if helicalValleyLBFGSCentralDerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if helicalValleyLBFGSCentralAbs(rise) <= 64*helicalValleyLBFGSCentralUnitRoundoff*helicalValleyLBFGSCentralAbs(fx) || !helicalValleyLBFGSCentralFaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -607,6 +610,17 @@ func (r *helicalValleyLBFGSCentralRiseTrend) add(t, rise, fx float64, faithful b
 // contradicts reports whether the trials showed a proportional rise.
 func (r *helicalValleyLBFGSCentralRiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// helicalValleyLBFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func helicalValleyLBFGSCentralFaithfulStep(x, xt, d *[3]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(helicalValleyLBFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*helicalValleyLBFGSCentralAbs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // helicalValleyLBFGSCentralTinyOrExhausted ends a search that has run below the step limit: no
@@ -643,17 +657,6 @@ func helicalValleyLBFGSCentralMoveTo(out, x *[3]float64, t float64, d *[3]float6
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// helicalValleyLBFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func helicalValleyLBFGSCentralFaithfulStep(x, xt, d *[3]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(helicalValleyLBFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*helicalValleyLBFGSCentralAbs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // helicalValleyLBFGSCentralCurvatureMet is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)

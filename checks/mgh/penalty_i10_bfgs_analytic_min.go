@@ -201,11 +201,9 @@ func penaltyI10BFGSAnalyticMinimize(x0 [10]float64, lim PenaltyI10BFGSAnalyticLi
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// penaltyI10BFGSAnalyticRiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// penaltyI10BFGSAnalyticRiseTrend, which never reports that for differences).
 			out.status = PenaltyI10BFGSAnalyticStepTiny
-			if found.rising && penaltyI10BFGSAnalyticDerivativeCost == 0 {
+			if found.rising {
 				out.status = PenaltyI10BFGSAnalyticNoDecrease
 			}
 			return out
@@ -454,7 +452,7 @@ func penaltyI10BFGSAnalyticLineSearch(x *[10]float64, fx float64, d *[10]float64
 		previous := low
 		if !penaltyI10BFGSAnalyticFinite(current.value) || current.value > fx+penaltyI10BFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, penaltyI10BFGSAnalyticFaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+penaltyI10BFGSAnalyticDerivativeCost > budget {
 				return penaltyI10BFGSAnalyticLineResult{calls: calls, end: penaltyI10BFGSAnalyticSearchOutOfBudget}
@@ -531,11 +529,16 @@ type penaltyI10BFGSAnalyticRiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *penaltyI10BFGSAnalyticRiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || penaltyI10BFGSAnalyticAbs(rise) <= 64*penaltyI10BFGSAnalyticUnitRoundoff*penaltyI10BFGSAnalyticAbs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *penaltyI10BFGSAnalyticRiseTrend) add(x, xt, d *[10]float64, t, rise, fx float64) {
+	if penaltyI10BFGSAnalyticDerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if penaltyI10BFGSAnalyticAbs(rise) <= 64*penaltyI10BFGSAnalyticUnitRoundoff*penaltyI10BFGSAnalyticAbs(fx) || !penaltyI10BFGSAnalyticFaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -551,6 +554,17 @@ func (r *penaltyI10BFGSAnalyticRiseTrend) add(t, rise, fx float64, faithful bool
 // contradicts reports whether the trials showed a proportional rise.
 func (r *penaltyI10BFGSAnalyticRiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// penaltyI10BFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func penaltyI10BFGSAnalyticFaithfulStep(x, xt, d *[10]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(penaltyI10BFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*penaltyI10BFGSAnalyticAbs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // penaltyI10BFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: no
@@ -587,17 +601,6 @@ func penaltyI10BFGSAnalyticMoveTo(out, x *[10]float64, t float64, d *[10]float64
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// penaltyI10BFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func penaltyI10BFGSAnalyticFaithfulStep(x, xt, d *[10]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(penaltyI10BFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*penaltyI10BFGSAnalyticAbs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // penaltyI10BFGSAnalyticCurvatureMet is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)

@@ -202,11 +202,9 @@ func penaltyI10CGCentralMinimize(x0 [10]float64, lim PenaltyI10CGCentralLimits) 
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// penaltyI10CGCentralRiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// penaltyI10CGCentralRiseTrend, which never reports that for differences).
 			out.status = PenaltyI10CGCentralStepTiny
-			if found.rising && penaltyI10CGCentralDerivativeCost == 0 {
+			if found.rising {
 				out.status = PenaltyI10CGCentralNoDecrease
 			}
 			return out
@@ -464,7 +462,7 @@ func penaltyI10CGCentralLineSearch(x *[10]float64, fx float64, d *[10]float64, s
 		previous := low
 		if !penaltyI10CGCentralFinite(current.value) || current.value > fx+penaltyI10CGCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, penaltyI10CGCentralFaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+penaltyI10CGCentralDerivativeCost > budget {
 				return penaltyI10CGCentralLineResult{calls: calls, end: penaltyI10CGCentralSearchOutOfBudget}
@@ -541,11 +539,16 @@ type penaltyI10CGCentralRiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *penaltyI10CGCentralRiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || penaltyI10CGCentralAbs(rise) <= 64*penaltyI10CGCentralUnitRoundoff*penaltyI10CGCentralAbs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *penaltyI10CGCentralRiseTrend) add(x, xt, d *[10]float64, t, rise, fx float64) {
+	if penaltyI10CGCentralDerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if penaltyI10CGCentralAbs(rise) <= 64*penaltyI10CGCentralUnitRoundoff*penaltyI10CGCentralAbs(fx) || !penaltyI10CGCentralFaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -561,6 +564,17 @@ func (r *penaltyI10CGCentralRiseTrend) add(t, rise, fx float64, faithful bool) {
 // contradicts reports whether the trials showed a proportional rise.
 func (r *penaltyI10CGCentralRiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// penaltyI10CGCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func penaltyI10CGCentralFaithfulStep(x, xt, d *[10]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(penaltyI10CGCentralAbs(xt[i]-x[i]-want) <= 0.01*penaltyI10CGCentralAbs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // penaltyI10CGCentralTinyOrExhausted ends a search that has run below the step limit: no
@@ -597,17 +611,6 @@ func penaltyI10CGCentralMoveTo(out, x *[10]float64, t float64, d *[10]float64) {
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// penaltyI10CGCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func penaltyI10CGCentralFaithfulStep(x, xt, d *[10]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(penaltyI10CGCentralAbs(xt[i]-x[i]-want) <= 0.01*penaltyI10CGCentralAbs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // penaltyI10CGCentralCurvatureMet is the strong Wolfe curvature condition

@@ -202,11 +202,9 @@ func penaltyI10LBFGSAnalyticMinimize(x0 [10]float64, lim PenaltyI10LBFGSAnalytic
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// penaltyI10LBFGSAnalyticRiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// penaltyI10LBFGSAnalyticRiseTrend, which never reports that for differences).
 			out.status = PenaltyI10LBFGSAnalyticStepTiny
-			if found.rising && penaltyI10LBFGSAnalyticDerivativeCost == 0 {
+			if found.rising {
 				out.status = PenaltyI10LBFGSAnalyticNoDecrease
 			}
 			return out
@@ -482,7 +480,7 @@ func penaltyI10LBFGSAnalyticLineSearch(x *[10]float64, fx float64, d *[10]float6
 		previous := low
 		if !penaltyI10LBFGSAnalyticFinite(current.value) || current.value > fx+penaltyI10LBFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, penaltyI10LBFGSAnalyticFaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+penaltyI10LBFGSAnalyticDerivativeCost > budget {
 				return penaltyI10LBFGSAnalyticLineResult{calls: calls, end: penaltyI10LBFGSAnalyticSearchOutOfBudget}
@@ -559,11 +557,16 @@ type penaltyI10LBFGSAnalyticRiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *penaltyI10LBFGSAnalyticRiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || penaltyI10LBFGSAnalyticAbs(rise) <= 64*penaltyI10LBFGSAnalyticUnitRoundoff*penaltyI10LBFGSAnalyticAbs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *penaltyI10LBFGSAnalyticRiseTrend) add(x, xt, d *[10]float64, t, rise, fx float64) {
+	if penaltyI10LBFGSAnalyticDerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if penaltyI10LBFGSAnalyticAbs(rise) <= 64*penaltyI10LBFGSAnalyticUnitRoundoff*penaltyI10LBFGSAnalyticAbs(fx) || !penaltyI10LBFGSAnalyticFaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -579,6 +582,17 @@ func (r *penaltyI10LBFGSAnalyticRiseTrend) add(t, rise, fx float64, faithful boo
 // contradicts reports whether the trials showed a proportional rise.
 func (r *penaltyI10LBFGSAnalyticRiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// penaltyI10LBFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func penaltyI10LBFGSAnalyticFaithfulStep(x, xt, d *[10]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(penaltyI10LBFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*penaltyI10LBFGSAnalyticAbs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // penaltyI10LBFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: no
@@ -615,17 +629,6 @@ func penaltyI10LBFGSAnalyticMoveTo(out, x *[10]float64, t float64, d *[10]float6
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// penaltyI10LBFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func penaltyI10LBFGSAnalyticFaithfulStep(x, xt, d *[10]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(penaltyI10LBFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*penaltyI10LBFGSAnalyticAbs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // penaltyI10LBFGSAnalyticCurvatureMet is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)

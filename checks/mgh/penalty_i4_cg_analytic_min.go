@@ -201,11 +201,9 @@ func penaltyI4CGAnalyticMinimize(x0 [4]float64, lim PenaltyI4CGAnalyticLimits) p
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// penaltyI4CGAnalyticRiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// penaltyI4CGAnalyticRiseTrend, which never reports that for differences).
 			out.status = PenaltyI4CGAnalyticStepTiny
-			if found.rising && penaltyI4CGAnalyticDerivativeCost == 0 {
+			if found.rising {
 				out.status = PenaltyI4CGAnalyticNoDecrease
 			}
 			return out
@@ -446,7 +444,7 @@ func penaltyI4CGAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64, slo
 		previous := low
 		if !penaltyI4CGAnalyticFinite(current.value) || current.value > fx+penaltyI4CGAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, penaltyI4CGAnalyticFaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+penaltyI4CGAnalyticDerivativeCost > budget {
 				return penaltyI4CGAnalyticLineResult{calls: calls, end: penaltyI4CGAnalyticSearchOutOfBudget}
@@ -523,11 +521,16 @@ type penaltyI4CGAnalyticRiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *penaltyI4CGAnalyticRiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || penaltyI4CGAnalyticAbs(rise) <= 64*penaltyI4CGAnalyticUnitRoundoff*penaltyI4CGAnalyticAbs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *penaltyI4CGAnalyticRiseTrend) add(x, xt, d *[4]float64, t, rise, fx float64) {
+	if penaltyI4CGAnalyticDerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if penaltyI4CGAnalyticAbs(rise) <= 64*penaltyI4CGAnalyticUnitRoundoff*penaltyI4CGAnalyticAbs(fx) || !penaltyI4CGAnalyticFaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -543,6 +546,17 @@ func (r *penaltyI4CGAnalyticRiseTrend) add(t, rise, fx float64, faithful bool) {
 // contradicts reports whether the trials showed a proportional rise.
 func (r *penaltyI4CGAnalyticRiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// penaltyI4CGAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func penaltyI4CGAnalyticFaithfulStep(x, xt, d *[4]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(penaltyI4CGAnalyticAbs(xt[i]-x[i]-want) <= 0.01*penaltyI4CGAnalyticAbs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // penaltyI4CGAnalyticTinyOrExhausted ends a search that has run below the step limit: no
@@ -579,17 +593,6 @@ func penaltyI4CGAnalyticMoveTo(out, x *[4]float64, t float64, d *[4]float64) {
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// penaltyI4CGAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func penaltyI4CGAnalyticFaithfulStep(x, xt, d *[4]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(penaltyI4CGAnalyticAbs(xt[i]-x[i]-want) <= 0.01*penaltyI4CGAnalyticAbs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // penaltyI4CGAnalyticCurvatureMet is the strong Wolfe curvature condition

@@ -202,11 +202,9 @@ func penaltyI4CGCentralMinimize(x0 [4]float64, lim PenaltyI4CGCentralLimits) pen
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// penaltyI4CGCentralRiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// penaltyI4CGCentralRiseTrend, which never reports that for differences).
 			out.status = PenaltyI4CGCentralStepTiny
-			if found.rising && penaltyI4CGCentralDerivativeCost == 0 {
+			if found.rising {
 				out.status = PenaltyI4CGCentralNoDecrease
 			}
 			return out
@@ -464,7 +462,7 @@ func penaltyI4CGCentralLineSearch(x *[4]float64, fx float64, d *[4]float64, slop
 		previous := low
 		if !penaltyI4CGCentralFinite(current.value) || current.value > fx+penaltyI4CGCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, penaltyI4CGCentralFaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+penaltyI4CGCentralDerivativeCost > budget {
 				return penaltyI4CGCentralLineResult{calls: calls, end: penaltyI4CGCentralSearchOutOfBudget}
@@ -541,11 +539,16 @@ type penaltyI4CGCentralRiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *penaltyI4CGCentralRiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || penaltyI4CGCentralAbs(rise) <= 64*penaltyI4CGCentralUnitRoundoff*penaltyI4CGCentralAbs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *penaltyI4CGCentralRiseTrend) add(x, xt, d *[4]float64, t, rise, fx float64) {
+	if penaltyI4CGCentralDerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if penaltyI4CGCentralAbs(rise) <= 64*penaltyI4CGCentralUnitRoundoff*penaltyI4CGCentralAbs(fx) || !penaltyI4CGCentralFaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -561,6 +564,17 @@ func (r *penaltyI4CGCentralRiseTrend) add(t, rise, fx float64, faithful bool) {
 // contradicts reports whether the trials showed a proportional rise.
 func (r *penaltyI4CGCentralRiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// penaltyI4CGCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func penaltyI4CGCentralFaithfulStep(x, xt, d *[4]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(penaltyI4CGCentralAbs(xt[i]-x[i]-want) <= 0.01*penaltyI4CGCentralAbs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // penaltyI4CGCentralTinyOrExhausted ends a search that has run below the step limit: no
@@ -597,17 +611,6 @@ func penaltyI4CGCentralMoveTo(out, x *[4]float64, t float64, d *[4]float64) {
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// penaltyI4CGCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func penaltyI4CGCentralFaithfulStep(x, xt, d *[4]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(penaltyI4CGCentralAbs(xt[i]-x[i]-want) <= 0.01*penaltyI4CGCentralAbs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // penaltyI4CGCentralCurvatureMet is the strong Wolfe curvature condition

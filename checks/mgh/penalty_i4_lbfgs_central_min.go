@@ -203,11 +203,9 @@ func penaltyI4LBFGSCentralMinimize(x0 [4]float64, lim PenaltyI4LBFGSCentralLimit
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// penaltyI4LBFGSCentralRiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// penaltyI4LBFGSCentralRiseTrend, which never reports that for differences).
 			out.status = PenaltyI4LBFGSCentralStepTiny
-			if found.rising && penaltyI4LBFGSCentralDerivativeCost == 0 {
+			if found.rising {
 				out.status = PenaltyI4LBFGSCentralNoDecrease
 			}
 			return out
@@ -510,7 +508,7 @@ func penaltyI4LBFGSCentralLineSearch(x *[4]float64, fx float64, d *[4]float64, s
 		previous := low
 		if !penaltyI4LBFGSCentralFinite(current.value) || current.value > fx+penaltyI4LBFGSCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, penaltyI4LBFGSCentralFaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+penaltyI4LBFGSCentralDerivativeCost > budget {
 				return penaltyI4LBFGSCentralLineResult{calls: calls, end: penaltyI4LBFGSCentralSearchOutOfBudget}
@@ -587,11 +585,16 @@ type penaltyI4LBFGSCentralRiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *penaltyI4LBFGSCentralRiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || penaltyI4LBFGSCentralAbs(rise) <= 64*penaltyI4LBFGSCentralUnitRoundoff*penaltyI4LBFGSCentralAbs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *penaltyI4LBFGSCentralRiseTrend) add(x, xt, d *[4]float64, t, rise, fx float64) {
+	if penaltyI4LBFGSCentralDerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if penaltyI4LBFGSCentralAbs(rise) <= 64*penaltyI4LBFGSCentralUnitRoundoff*penaltyI4LBFGSCentralAbs(fx) || !penaltyI4LBFGSCentralFaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -607,6 +610,17 @@ func (r *penaltyI4LBFGSCentralRiseTrend) add(t, rise, fx float64, faithful bool)
 // contradicts reports whether the trials showed a proportional rise.
 func (r *penaltyI4LBFGSCentralRiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// penaltyI4LBFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func penaltyI4LBFGSCentralFaithfulStep(x, xt, d *[4]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(penaltyI4LBFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*penaltyI4LBFGSCentralAbs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // penaltyI4LBFGSCentralTinyOrExhausted ends a search that has run below the step limit: no
@@ -643,17 +657,6 @@ func penaltyI4LBFGSCentralMoveTo(out, x *[4]float64, t float64, d *[4]float64) {
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// penaltyI4LBFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func penaltyI4LBFGSCentralFaithfulStep(x, xt, d *[4]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(penaltyI4LBFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*penaltyI4LBFGSCentralAbs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // penaltyI4LBFGSCentralCurvatureMet is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)

@@ -201,11 +201,9 @@ func penaltyII10BFGSAnalyticMinimize(x0 [10]float64, lim PenaltyII10BFGSAnalytic
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// penaltyII10BFGSAnalyticRiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// penaltyII10BFGSAnalyticRiseTrend, which never reports that for differences).
 			out.status = PenaltyII10BFGSAnalyticStepTiny
-			if found.rising && penaltyII10BFGSAnalyticDerivativeCost == 0 {
+			if found.rising {
 				out.status = PenaltyII10BFGSAnalyticNoDecrease
 			}
 			return out
@@ -454,7 +452,7 @@ func penaltyII10BFGSAnalyticLineSearch(x *[10]float64, fx float64, d *[10]float6
 		previous := low
 		if !penaltyII10BFGSAnalyticFinite(current.value) || current.value > fx+penaltyII10BFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, penaltyII10BFGSAnalyticFaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+penaltyII10BFGSAnalyticDerivativeCost > budget {
 				return penaltyII10BFGSAnalyticLineResult{calls: calls, end: penaltyII10BFGSAnalyticSearchOutOfBudget}
@@ -531,11 +529,16 @@ type penaltyII10BFGSAnalyticRiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *penaltyII10BFGSAnalyticRiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || penaltyII10BFGSAnalyticAbs(rise) <= 64*penaltyII10BFGSAnalyticUnitRoundoff*penaltyII10BFGSAnalyticAbs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *penaltyII10BFGSAnalyticRiseTrend) add(x, xt, d *[10]float64, t, rise, fx float64) {
+	if penaltyII10BFGSAnalyticDerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if penaltyII10BFGSAnalyticAbs(rise) <= 64*penaltyII10BFGSAnalyticUnitRoundoff*penaltyII10BFGSAnalyticAbs(fx) || !penaltyII10BFGSAnalyticFaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -551,6 +554,17 @@ func (r *penaltyII10BFGSAnalyticRiseTrend) add(t, rise, fx float64, faithful boo
 // contradicts reports whether the trials showed a proportional rise.
 func (r *penaltyII10BFGSAnalyticRiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// penaltyII10BFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func penaltyII10BFGSAnalyticFaithfulStep(x, xt, d *[10]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(penaltyII10BFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*penaltyII10BFGSAnalyticAbs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // penaltyII10BFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: no
@@ -587,17 +601,6 @@ func penaltyII10BFGSAnalyticMoveTo(out, x *[10]float64, t float64, d *[10]float6
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// penaltyII10BFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func penaltyII10BFGSAnalyticFaithfulStep(x, xt, d *[10]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(penaltyII10BFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*penaltyII10BFGSAnalyticAbs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // penaltyII10BFGSAnalyticCurvatureMet is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)

@@ -202,11 +202,9 @@ func penaltyII10LBFGSAnalyticMinimize(x0 [10]float64, lim PenaltyII10LBFGSAnalyt
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// penaltyII10LBFGSAnalyticRiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// penaltyII10LBFGSAnalyticRiseTrend, which never reports that for differences).
 			out.status = PenaltyII10LBFGSAnalyticStepTiny
-			if found.rising && penaltyII10LBFGSAnalyticDerivativeCost == 0 {
+			if found.rising {
 				out.status = PenaltyII10LBFGSAnalyticNoDecrease
 			}
 			return out
@@ -482,7 +480,7 @@ func penaltyII10LBFGSAnalyticLineSearch(x *[10]float64, fx float64, d *[10]float
 		previous := low
 		if !penaltyII10LBFGSAnalyticFinite(current.value) || current.value > fx+penaltyII10LBFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, penaltyII10LBFGSAnalyticFaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+penaltyII10LBFGSAnalyticDerivativeCost > budget {
 				return penaltyII10LBFGSAnalyticLineResult{calls: calls, end: penaltyII10LBFGSAnalyticSearchOutOfBudget}
@@ -559,11 +557,16 @@ type penaltyII10LBFGSAnalyticRiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *penaltyII10LBFGSAnalyticRiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || penaltyII10LBFGSAnalyticAbs(rise) <= 64*penaltyII10LBFGSAnalyticUnitRoundoff*penaltyII10LBFGSAnalyticAbs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *penaltyII10LBFGSAnalyticRiseTrend) add(x, xt, d *[10]float64, t, rise, fx float64) {
+	if penaltyII10LBFGSAnalyticDerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if penaltyII10LBFGSAnalyticAbs(rise) <= 64*penaltyII10LBFGSAnalyticUnitRoundoff*penaltyII10LBFGSAnalyticAbs(fx) || !penaltyII10LBFGSAnalyticFaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -579,6 +582,17 @@ func (r *penaltyII10LBFGSAnalyticRiseTrend) add(t, rise, fx float64, faithful bo
 // contradicts reports whether the trials showed a proportional rise.
 func (r *penaltyII10LBFGSAnalyticRiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// penaltyII10LBFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func penaltyII10LBFGSAnalyticFaithfulStep(x, xt, d *[10]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(penaltyII10LBFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*penaltyII10LBFGSAnalyticAbs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // penaltyII10LBFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: no
@@ -615,17 +629,6 @@ func penaltyII10LBFGSAnalyticMoveTo(out, x *[10]float64, t float64, d *[10]float
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// penaltyII10LBFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func penaltyII10LBFGSAnalyticFaithfulStep(x, xt, d *[10]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(penaltyII10LBFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*penaltyII10LBFGSAnalyticAbs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // penaltyII10LBFGSAnalyticCurvatureMet is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)

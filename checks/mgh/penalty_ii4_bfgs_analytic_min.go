@@ -201,11 +201,9 @@ func penaltyII4BFGSAnalyticMinimize(x0 [4]float64, lim PenaltyII4BFGSAnalyticLim
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// penaltyII4BFGSAnalyticRiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// penaltyII4BFGSAnalyticRiseTrend, which never reports that for differences).
 			out.status = PenaltyII4BFGSAnalyticStepTiny
-			if found.rising && penaltyII4BFGSAnalyticDerivativeCost == 0 {
+			if found.rising {
 				out.status = PenaltyII4BFGSAnalyticNoDecrease
 			}
 			return out
@@ -454,7 +452,7 @@ func penaltyII4BFGSAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64, 
 		previous := low
 		if !penaltyII4BFGSAnalyticFinite(current.value) || current.value > fx+penaltyII4BFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, penaltyII4BFGSAnalyticFaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+penaltyII4BFGSAnalyticDerivativeCost > budget {
 				return penaltyII4BFGSAnalyticLineResult{calls: calls, end: penaltyII4BFGSAnalyticSearchOutOfBudget}
@@ -531,11 +529,16 @@ type penaltyII4BFGSAnalyticRiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *penaltyII4BFGSAnalyticRiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || penaltyII4BFGSAnalyticAbs(rise) <= 64*penaltyII4BFGSAnalyticUnitRoundoff*penaltyII4BFGSAnalyticAbs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *penaltyII4BFGSAnalyticRiseTrend) add(x, xt, d *[4]float64, t, rise, fx float64) {
+	if penaltyII4BFGSAnalyticDerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if penaltyII4BFGSAnalyticAbs(rise) <= 64*penaltyII4BFGSAnalyticUnitRoundoff*penaltyII4BFGSAnalyticAbs(fx) || !penaltyII4BFGSAnalyticFaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -551,6 +554,17 @@ func (r *penaltyII4BFGSAnalyticRiseTrend) add(t, rise, fx float64, faithful bool
 // contradicts reports whether the trials showed a proportional rise.
 func (r *penaltyII4BFGSAnalyticRiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// penaltyII4BFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func penaltyII4BFGSAnalyticFaithfulStep(x, xt, d *[4]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(penaltyII4BFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*penaltyII4BFGSAnalyticAbs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // penaltyII4BFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: no
@@ -587,17 +601,6 @@ func penaltyII4BFGSAnalyticMoveTo(out, x *[4]float64, t float64, d *[4]float64) 
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// penaltyII4BFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func penaltyII4BFGSAnalyticFaithfulStep(x, xt, d *[4]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(penaltyII4BFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*penaltyII4BFGSAnalyticAbs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // penaltyII4BFGSAnalyticCurvatureMet is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)

@@ -202,11 +202,9 @@ func penaltyII4BFGSCentralMinimize(x0 [4]float64, lim PenaltyII4BFGSCentralLimit
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// penaltyII4BFGSCentralRiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// penaltyII4BFGSCentralRiseTrend, which never reports that for differences).
 			out.status = PenaltyII4BFGSCentralStepTiny
-			if found.rising && penaltyII4BFGSCentralDerivativeCost == 0 {
+			if found.rising {
 				out.status = PenaltyII4BFGSCentralNoDecrease
 			}
 			return out
@@ -482,7 +480,7 @@ func penaltyII4BFGSCentralLineSearch(x *[4]float64, fx float64, d *[4]float64, s
 		previous := low
 		if !penaltyII4BFGSCentralFinite(current.value) || current.value > fx+penaltyII4BFGSCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, penaltyII4BFGSCentralFaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+penaltyII4BFGSCentralDerivativeCost > budget {
 				return penaltyII4BFGSCentralLineResult{calls: calls, end: penaltyII4BFGSCentralSearchOutOfBudget}
@@ -559,11 +557,16 @@ type penaltyII4BFGSCentralRiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *penaltyII4BFGSCentralRiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || penaltyII4BFGSCentralAbs(rise) <= 64*penaltyII4BFGSCentralUnitRoundoff*penaltyII4BFGSCentralAbs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *penaltyII4BFGSCentralRiseTrend) add(x, xt, d *[4]float64, t, rise, fx float64) {
+	if penaltyII4BFGSCentralDerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if penaltyII4BFGSCentralAbs(rise) <= 64*penaltyII4BFGSCentralUnitRoundoff*penaltyII4BFGSCentralAbs(fx) || !penaltyII4BFGSCentralFaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -579,6 +582,17 @@ func (r *penaltyII4BFGSCentralRiseTrend) add(t, rise, fx float64, faithful bool)
 // contradicts reports whether the trials showed a proportional rise.
 func (r *penaltyII4BFGSCentralRiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// penaltyII4BFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func penaltyII4BFGSCentralFaithfulStep(x, xt, d *[4]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(penaltyII4BFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*penaltyII4BFGSCentralAbs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // penaltyII4BFGSCentralTinyOrExhausted ends a search that has run below the step limit: no
@@ -615,17 +629,6 @@ func penaltyII4BFGSCentralMoveTo(out, x *[4]float64, t float64, d *[4]float64) {
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// penaltyII4BFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func penaltyII4BFGSCentralFaithfulStep(x, xt, d *[4]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(penaltyII4BFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*penaltyII4BFGSCentralAbs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // penaltyII4BFGSCentralCurvatureMet is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)

@@ -201,11 +201,9 @@ func powellBadlyScaledBFGSAnalyticMinimize(x0 [2]float64, lim PowellBadlyScaledB
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// powellBadlyScaledBFGSAnalyticRiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// powellBadlyScaledBFGSAnalyticRiseTrend, which never reports that for differences).
 			out.status = PowellBadlyScaledBFGSAnalyticStepTiny
-			if found.rising && powellBadlyScaledBFGSAnalyticDerivativeCost == 0 {
+			if found.rising {
 				out.status = PowellBadlyScaledBFGSAnalyticNoDecrease
 			}
 			return out
@@ -454,7 +452,7 @@ func powellBadlyScaledBFGSAnalyticLineSearch(x *[2]float64, fx float64, d *[2]fl
 		previous := low
 		if !powellBadlyScaledBFGSAnalyticFinite(current.value) || current.value > fx+powellBadlyScaledBFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, powellBadlyScaledBFGSAnalyticFaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+powellBadlyScaledBFGSAnalyticDerivativeCost > budget {
 				return powellBadlyScaledBFGSAnalyticLineResult{calls: calls, end: powellBadlyScaledBFGSAnalyticSearchOutOfBudget}
@@ -531,11 +529,16 @@ type powellBadlyScaledBFGSAnalyticRiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *powellBadlyScaledBFGSAnalyticRiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || powellBadlyScaledBFGSAnalyticAbs(rise) <= 64*powellBadlyScaledBFGSAnalyticUnitRoundoff*powellBadlyScaledBFGSAnalyticAbs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *powellBadlyScaledBFGSAnalyticRiseTrend) add(x, xt, d *[2]float64, t, rise, fx float64) {
+	if powellBadlyScaledBFGSAnalyticDerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if powellBadlyScaledBFGSAnalyticAbs(rise) <= 64*powellBadlyScaledBFGSAnalyticUnitRoundoff*powellBadlyScaledBFGSAnalyticAbs(fx) || !powellBadlyScaledBFGSAnalyticFaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -551,6 +554,17 @@ func (r *powellBadlyScaledBFGSAnalyticRiseTrend) add(t, rise, fx float64, faithf
 // contradicts reports whether the trials showed a proportional rise.
 func (r *powellBadlyScaledBFGSAnalyticRiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// powellBadlyScaledBFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func powellBadlyScaledBFGSAnalyticFaithfulStep(x, xt, d *[2]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(powellBadlyScaledBFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*powellBadlyScaledBFGSAnalyticAbs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // powellBadlyScaledBFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: no
@@ -587,17 +601,6 @@ func powellBadlyScaledBFGSAnalyticMoveTo(out, x *[2]float64, t float64, d *[2]fl
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// powellBadlyScaledBFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func powellBadlyScaledBFGSAnalyticFaithfulStep(x, xt, d *[2]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(powellBadlyScaledBFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*powellBadlyScaledBFGSAnalyticAbs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // powellBadlyScaledBFGSAnalyticCurvatureMet is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)

@@ -202,11 +202,9 @@ func powellBadlyScaledBFGSCentralMinimize(x0 [2]float64, lim PowellBadlyScaledBF
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// powellBadlyScaledBFGSCentralRiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// powellBadlyScaledBFGSCentralRiseTrend, which never reports that for differences).
 			out.status = PowellBadlyScaledBFGSCentralStepTiny
-			if found.rising && powellBadlyScaledBFGSCentralDerivativeCost == 0 {
+			if found.rising {
 				out.status = PowellBadlyScaledBFGSCentralNoDecrease
 			}
 			return out
@@ -482,7 +480,7 @@ func powellBadlyScaledBFGSCentralLineSearch(x *[2]float64, fx float64, d *[2]flo
 		previous := low
 		if !powellBadlyScaledBFGSCentralFinite(current.value) || current.value > fx+powellBadlyScaledBFGSCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, powellBadlyScaledBFGSCentralFaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+powellBadlyScaledBFGSCentralDerivativeCost > budget {
 				return powellBadlyScaledBFGSCentralLineResult{calls: calls, end: powellBadlyScaledBFGSCentralSearchOutOfBudget}
@@ -559,11 +557,16 @@ type powellBadlyScaledBFGSCentralRiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *powellBadlyScaledBFGSCentralRiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || powellBadlyScaledBFGSCentralAbs(rise) <= 64*powellBadlyScaledBFGSCentralUnitRoundoff*powellBadlyScaledBFGSCentralAbs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *powellBadlyScaledBFGSCentralRiseTrend) add(x, xt, d *[2]float64, t, rise, fx float64) {
+	if powellBadlyScaledBFGSCentralDerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if powellBadlyScaledBFGSCentralAbs(rise) <= 64*powellBadlyScaledBFGSCentralUnitRoundoff*powellBadlyScaledBFGSCentralAbs(fx) || !powellBadlyScaledBFGSCentralFaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -579,6 +582,17 @@ func (r *powellBadlyScaledBFGSCentralRiseTrend) add(t, rise, fx float64, faithfu
 // contradicts reports whether the trials showed a proportional rise.
 func (r *powellBadlyScaledBFGSCentralRiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// powellBadlyScaledBFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func powellBadlyScaledBFGSCentralFaithfulStep(x, xt, d *[2]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(powellBadlyScaledBFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*powellBadlyScaledBFGSCentralAbs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // powellBadlyScaledBFGSCentralTinyOrExhausted ends a search that has run below the step limit: no
@@ -615,17 +629,6 @@ func powellBadlyScaledBFGSCentralMoveTo(out, x *[2]float64, t float64, d *[2]flo
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// powellBadlyScaledBFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func powellBadlyScaledBFGSCentralFaithfulStep(x, xt, d *[2]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(powellBadlyScaledBFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*powellBadlyScaledBFGSCentralAbs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // powellBadlyScaledBFGSCentralCurvatureMet is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)

@@ -202,11 +202,9 @@ func powellBadlyScaledCGCentralMinimize(x0 [2]float64, lim PowellBadlyScaledCGCe
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// powellBadlyScaledCGCentralRiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// powellBadlyScaledCGCentralRiseTrend, which never reports that for differences).
 			out.status = PowellBadlyScaledCGCentralStepTiny
-			if found.rising && powellBadlyScaledCGCentralDerivativeCost == 0 {
+			if found.rising {
 				out.status = PowellBadlyScaledCGCentralNoDecrease
 			}
 			return out
@@ -464,7 +462,7 @@ func powellBadlyScaledCGCentralLineSearch(x *[2]float64, fx float64, d *[2]float
 		previous := low
 		if !powellBadlyScaledCGCentralFinite(current.value) || current.value > fx+powellBadlyScaledCGCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, powellBadlyScaledCGCentralFaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+powellBadlyScaledCGCentralDerivativeCost > budget {
 				return powellBadlyScaledCGCentralLineResult{calls: calls, end: powellBadlyScaledCGCentralSearchOutOfBudget}
@@ -541,11 +539,16 @@ type powellBadlyScaledCGCentralRiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *powellBadlyScaledCGCentralRiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || powellBadlyScaledCGCentralAbs(rise) <= 64*powellBadlyScaledCGCentralUnitRoundoff*powellBadlyScaledCGCentralAbs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *powellBadlyScaledCGCentralRiseTrend) add(x, xt, d *[2]float64, t, rise, fx float64) {
+	if powellBadlyScaledCGCentralDerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if powellBadlyScaledCGCentralAbs(rise) <= 64*powellBadlyScaledCGCentralUnitRoundoff*powellBadlyScaledCGCentralAbs(fx) || !powellBadlyScaledCGCentralFaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -561,6 +564,17 @@ func (r *powellBadlyScaledCGCentralRiseTrend) add(t, rise, fx float64, faithful 
 // contradicts reports whether the trials showed a proportional rise.
 func (r *powellBadlyScaledCGCentralRiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// powellBadlyScaledCGCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func powellBadlyScaledCGCentralFaithfulStep(x, xt, d *[2]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(powellBadlyScaledCGCentralAbs(xt[i]-x[i]-want) <= 0.01*powellBadlyScaledCGCentralAbs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // powellBadlyScaledCGCentralTinyOrExhausted ends a search that has run below the step limit: no
@@ -597,17 +611,6 @@ func powellBadlyScaledCGCentralMoveTo(out, x *[2]float64, t float64, d *[2]float
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// powellBadlyScaledCGCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func powellBadlyScaledCGCentralFaithfulStep(x, xt, d *[2]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(powellBadlyScaledCGCentralAbs(xt[i]-x[i]-want) <= 0.01*powellBadlyScaledCGCentralAbs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // powellBadlyScaledCGCentralCurvatureMet is the strong Wolfe curvature condition

@@ -202,11 +202,9 @@ func powellBadlyScaledLBFGSAnalyticMinimize(x0 [2]float64, lim PowellBadlyScaled
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// powellBadlyScaledLBFGSAnalyticRiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// powellBadlyScaledLBFGSAnalyticRiseTrend, which never reports that for differences).
 			out.status = PowellBadlyScaledLBFGSAnalyticStepTiny
-			if found.rising && powellBadlyScaledLBFGSAnalyticDerivativeCost == 0 {
+			if found.rising {
 				out.status = PowellBadlyScaledLBFGSAnalyticNoDecrease
 			}
 			return out
@@ -482,7 +480,7 @@ func powellBadlyScaledLBFGSAnalyticLineSearch(x *[2]float64, fx float64, d *[2]f
 		previous := low
 		if !powellBadlyScaledLBFGSAnalyticFinite(current.value) || current.value > fx+powellBadlyScaledLBFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, powellBadlyScaledLBFGSAnalyticFaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+powellBadlyScaledLBFGSAnalyticDerivativeCost > budget {
 				return powellBadlyScaledLBFGSAnalyticLineResult{calls: calls, end: powellBadlyScaledLBFGSAnalyticSearchOutOfBudget}
@@ -559,11 +557,16 @@ type powellBadlyScaledLBFGSAnalyticRiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *powellBadlyScaledLBFGSAnalyticRiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || powellBadlyScaledLBFGSAnalyticAbs(rise) <= 64*powellBadlyScaledLBFGSAnalyticUnitRoundoff*powellBadlyScaledLBFGSAnalyticAbs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *powellBadlyScaledLBFGSAnalyticRiseTrend) add(x, xt, d *[2]float64, t, rise, fx float64) {
+	if powellBadlyScaledLBFGSAnalyticDerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if powellBadlyScaledLBFGSAnalyticAbs(rise) <= 64*powellBadlyScaledLBFGSAnalyticUnitRoundoff*powellBadlyScaledLBFGSAnalyticAbs(fx) || !powellBadlyScaledLBFGSAnalyticFaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -579,6 +582,17 @@ func (r *powellBadlyScaledLBFGSAnalyticRiseTrend) add(t, rise, fx float64, faith
 // contradicts reports whether the trials showed a proportional rise.
 func (r *powellBadlyScaledLBFGSAnalyticRiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// powellBadlyScaledLBFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func powellBadlyScaledLBFGSAnalyticFaithfulStep(x, xt, d *[2]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(powellBadlyScaledLBFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*powellBadlyScaledLBFGSAnalyticAbs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // powellBadlyScaledLBFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: no
@@ -615,17 +629,6 @@ func powellBadlyScaledLBFGSAnalyticMoveTo(out, x *[2]float64, t float64, d *[2]f
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// powellBadlyScaledLBFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func powellBadlyScaledLBFGSAnalyticFaithfulStep(x, xt, d *[2]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(powellBadlyScaledLBFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*powellBadlyScaledLBFGSAnalyticAbs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // powellBadlyScaledLBFGSAnalyticCurvatureMet is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)

@@ -203,11 +203,9 @@ func powellBadlyScaledLBFGSCentralMinimize(x0 [2]float64, lim PowellBadlyScaledL
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// powellBadlyScaledLBFGSCentralRiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// powellBadlyScaledLBFGSCentralRiseTrend, which never reports that for differences).
 			out.status = PowellBadlyScaledLBFGSCentralStepTiny
-			if found.rising && powellBadlyScaledLBFGSCentralDerivativeCost == 0 {
+			if found.rising {
 				out.status = PowellBadlyScaledLBFGSCentralNoDecrease
 			}
 			return out
@@ -510,7 +508,7 @@ func powellBadlyScaledLBFGSCentralLineSearch(x *[2]float64, fx float64, d *[2]fl
 		previous := low
 		if !powellBadlyScaledLBFGSCentralFinite(current.value) || current.value > fx+powellBadlyScaledLBFGSCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, powellBadlyScaledLBFGSCentralFaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+powellBadlyScaledLBFGSCentralDerivativeCost > budget {
 				return powellBadlyScaledLBFGSCentralLineResult{calls: calls, end: powellBadlyScaledLBFGSCentralSearchOutOfBudget}
@@ -587,11 +585,16 @@ type powellBadlyScaledLBFGSCentralRiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *powellBadlyScaledLBFGSCentralRiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || powellBadlyScaledLBFGSCentralAbs(rise) <= 64*powellBadlyScaledLBFGSCentralUnitRoundoff*powellBadlyScaledLBFGSCentralAbs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *powellBadlyScaledLBFGSCentralRiseTrend) add(x, xt, d *[2]float64, t, rise, fx float64) {
+	if powellBadlyScaledLBFGSCentralDerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if powellBadlyScaledLBFGSCentralAbs(rise) <= 64*powellBadlyScaledLBFGSCentralUnitRoundoff*powellBadlyScaledLBFGSCentralAbs(fx) || !powellBadlyScaledLBFGSCentralFaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -607,6 +610,17 @@ func (r *powellBadlyScaledLBFGSCentralRiseTrend) add(t, rise, fx float64, faithf
 // contradicts reports whether the trials showed a proportional rise.
 func (r *powellBadlyScaledLBFGSCentralRiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// powellBadlyScaledLBFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func powellBadlyScaledLBFGSCentralFaithfulStep(x, xt, d *[2]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(powellBadlyScaledLBFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*powellBadlyScaledLBFGSCentralAbs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // powellBadlyScaledLBFGSCentralTinyOrExhausted ends a search that has run below the step limit: no
@@ -643,17 +657,6 @@ func powellBadlyScaledLBFGSCentralMoveTo(out, x *[2]float64, t float64, d *[2]fl
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// powellBadlyScaledLBFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func powellBadlyScaledLBFGSCentralFaithfulStep(x, xt, d *[2]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(powellBadlyScaledLBFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*powellBadlyScaledLBFGSCentralAbs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // powellBadlyScaledLBFGSCentralCurvatureMet is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)

@@ -201,11 +201,9 @@ func powellSingularBFGSAnalyticMinimize(x0 [4]float64, lim PowellSingularBFGSAna
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// powellSingularBFGSAnalyticRiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// powellSingularBFGSAnalyticRiseTrend, which never reports that for differences).
 			out.status = PowellSingularBFGSAnalyticStepTiny
-			if found.rising && powellSingularBFGSAnalyticDerivativeCost == 0 {
+			if found.rising {
 				out.status = PowellSingularBFGSAnalyticNoDecrease
 			}
 			return out
@@ -454,7 +452,7 @@ func powellSingularBFGSAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float
 		previous := low
 		if !powellSingularBFGSAnalyticFinite(current.value) || current.value > fx+powellSingularBFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, powellSingularBFGSAnalyticFaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+powellSingularBFGSAnalyticDerivativeCost > budget {
 				return powellSingularBFGSAnalyticLineResult{calls: calls, end: powellSingularBFGSAnalyticSearchOutOfBudget}
@@ -531,11 +529,16 @@ type powellSingularBFGSAnalyticRiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *powellSingularBFGSAnalyticRiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || powellSingularBFGSAnalyticAbs(rise) <= 64*powellSingularBFGSAnalyticUnitRoundoff*powellSingularBFGSAnalyticAbs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *powellSingularBFGSAnalyticRiseTrend) add(x, xt, d *[4]float64, t, rise, fx float64) {
+	if powellSingularBFGSAnalyticDerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if powellSingularBFGSAnalyticAbs(rise) <= 64*powellSingularBFGSAnalyticUnitRoundoff*powellSingularBFGSAnalyticAbs(fx) || !powellSingularBFGSAnalyticFaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -551,6 +554,17 @@ func (r *powellSingularBFGSAnalyticRiseTrend) add(t, rise, fx float64, faithful 
 // contradicts reports whether the trials showed a proportional rise.
 func (r *powellSingularBFGSAnalyticRiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// powellSingularBFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func powellSingularBFGSAnalyticFaithfulStep(x, xt, d *[4]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(powellSingularBFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*powellSingularBFGSAnalyticAbs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // powellSingularBFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: no
@@ -587,17 +601,6 @@ func powellSingularBFGSAnalyticMoveTo(out, x *[4]float64, t float64, d *[4]float
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// powellSingularBFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func powellSingularBFGSAnalyticFaithfulStep(x, xt, d *[4]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(powellSingularBFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*powellSingularBFGSAnalyticAbs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // powellSingularBFGSAnalyticCurvatureMet is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)

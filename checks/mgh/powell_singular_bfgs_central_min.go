@@ -202,11 +202,9 @@ func powellSingularBFGSCentralMinimize(x0 [4]float64, lim PowellSingularBFGSCent
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// powellSingularBFGSCentralRiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// powellSingularBFGSCentralRiseTrend, which never reports that for differences).
 			out.status = PowellSingularBFGSCentralStepTiny
-			if found.rising && powellSingularBFGSCentralDerivativeCost == 0 {
+			if found.rising {
 				out.status = PowellSingularBFGSCentralNoDecrease
 			}
 			return out
@@ -482,7 +480,7 @@ func powellSingularBFGSCentralLineSearch(x *[4]float64, fx float64, d *[4]float6
 		previous := low
 		if !powellSingularBFGSCentralFinite(current.value) || current.value > fx+powellSingularBFGSCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, powellSingularBFGSCentralFaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+powellSingularBFGSCentralDerivativeCost > budget {
 				return powellSingularBFGSCentralLineResult{calls: calls, end: powellSingularBFGSCentralSearchOutOfBudget}
@@ -559,11 +557,16 @@ type powellSingularBFGSCentralRiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *powellSingularBFGSCentralRiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || powellSingularBFGSCentralAbs(rise) <= 64*powellSingularBFGSCentralUnitRoundoff*powellSingularBFGSCentralAbs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *powellSingularBFGSCentralRiseTrend) add(x, xt, d *[4]float64, t, rise, fx float64) {
+	if powellSingularBFGSCentralDerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if powellSingularBFGSCentralAbs(rise) <= 64*powellSingularBFGSCentralUnitRoundoff*powellSingularBFGSCentralAbs(fx) || !powellSingularBFGSCentralFaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -579,6 +582,17 @@ func (r *powellSingularBFGSCentralRiseTrend) add(t, rise, fx float64, faithful b
 // contradicts reports whether the trials showed a proportional rise.
 func (r *powellSingularBFGSCentralRiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// powellSingularBFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func powellSingularBFGSCentralFaithfulStep(x, xt, d *[4]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(powellSingularBFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*powellSingularBFGSCentralAbs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // powellSingularBFGSCentralTinyOrExhausted ends a search that has run below the step limit: no
@@ -615,17 +629,6 @@ func powellSingularBFGSCentralMoveTo(out, x *[4]float64, t float64, d *[4]float6
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// powellSingularBFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func powellSingularBFGSCentralFaithfulStep(x, xt, d *[4]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(powellSingularBFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*powellSingularBFGSCentralAbs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // powellSingularBFGSCentralCurvatureMet is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)

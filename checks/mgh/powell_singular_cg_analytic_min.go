@@ -201,11 +201,9 @@ func powellSingularCGAnalyticMinimize(x0 [4]float64, lim PowellSingularCGAnalyti
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// powellSingularCGAnalyticRiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// powellSingularCGAnalyticRiseTrend, which never reports that for differences).
 			out.status = PowellSingularCGAnalyticStepTiny
-			if found.rising && powellSingularCGAnalyticDerivativeCost == 0 {
+			if found.rising {
 				out.status = PowellSingularCGAnalyticNoDecrease
 			}
 			return out
@@ -446,7 +444,7 @@ func powellSingularCGAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64
 		previous := low
 		if !powellSingularCGAnalyticFinite(current.value) || current.value > fx+powellSingularCGAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, powellSingularCGAnalyticFaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+powellSingularCGAnalyticDerivativeCost > budget {
 				return powellSingularCGAnalyticLineResult{calls: calls, end: powellSingularCGAnalyticSearchOutOfBudget}
@@ -523,11 +521,16 @@ type powellSingularCGAnalyticRiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *powellSingularCGAnalyticRiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || powellSingularCGAnalyticAbs(rise) <= 64*powellSingularCGAnalyticUnitRoundoff*powellSingularCGAnalyticAbs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *powellSingularCGAnalyticRiseTrend) add(x, xt, d *[4]float64, t, rise, fx float64) {
+	if powellSingularCGAnalyticDerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if powellSingularCGAnalyticAbs(rise) <= 64*powellSingularCGAnalyticUnitRoundoff*powellSingularCGAnalyticAbs(fx) || !powellSingularCGAnalyticFaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -543,6 +546,17 @@ func (r *powellSingularCGAnalyticRiseTrend) add(t, rise, fx float64, faithful bo
 // contradicts reports whether the trials showed a proportional rise.
 func (r *powellSingularCGAnalyticRiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// powellSingularCGAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func powellSingularCGAnalyticFaithfulStep(x, xt, d *[4]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(powellSingularCGAnalyticAbs(xt[i]-x[i]-want) <= 0.01*powellSingularCGAnalyticAbs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // powellSingularCGAnalyticTinyOrExhausted ends a search that has run below the step limit: no
@@ -579,17 +593,6 @@ func powellSingularCGAnalyticMoveTo(out, x *[4]float64, t float64, d *[4]float64
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// powellSingularCGAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func powellSingularCGAnalyticFaithfulStep(x, xt, d *[4]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(powellSingularCGAnalyticAbs(xt[i]-x[i]-want) <= 0.01*powellSingularCGAnalyticAbs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // powellSingularCGAnalyticCurvatureMet is the strong Wolfe curvature condition

@@ -202,11 +202,9 @@ func powellSingularCGCentralMinimize(x0 [4]float64, lim PowellSingularCGCentralL
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// powellSingularCGCentralRiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// powellSingularCGCentralRiseTrend, which never reports that for differences).
 			out.status = PowellSingularCGCentralStepTiny
-			if found.rising && powellSingularCGCentralDerivativeCost == 0 {
+			if found.rising {
 				out.status = PowellSingularCGCentralNoDecrease
 			}
 			return out
@@ -464,7 +462,7 @@ func powellSingularCGCentralLineSearch(x *[4]float64, fx float64, d *[4]float64,
 		previous := low
 		if !powellSingularCGCentralFinite(current.value) || current.value > fx+powellSingularCGCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, powellSingularCGCentralFaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+powellSingularCGCentralDerivativeCost > budget {
 				return powellSingularCGCentralLineResult{calls: calls, end: powellSingularCGCentralSearchOutOfBudget}
@@ -541,11 +539,16 @@ type powellSingularCGCentralRiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *powellSingularCGCentralRiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || powellSingularCGCentralAbs(rise) <= 64*powellSingularCGCentralUnitRoundoff*powellSingularCGCentralAbs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *powellSingularCGCentralRiseTrend) add(x, xt, d *[4]float64, t, rise, fx float64) {
+	if powellSingularCGCentralDerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if powellSingularCGCentralAbs(rise) <= 64*powellSingularCGCentralUnitRoundoff*powellSingularCGCentralAbs(fx) || !powellSingularCGCentralFaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -561,6 +564,17 @@ func (r *powellSingularCGCentralRiseTrend) add(t, rise, fx float64, faithful boo
 // contradicts reports whether the trials showed a proportional rise.
 func (r *powellSingularCGCentralRiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// powellSingularCGCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func powellSingularCGCentralFaithfulStep(x, xt, d *[4]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(powellSingularCGCentralAbs(xt[i]-x[i]-want) <= 0.01*powellSingularCGCentralAbs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // powellSingularCGCentralTinyOrExhausted ends a search that has run below the step limit: no
@@ -597,17 +611,6 @@ func powellSingularCGCentralMoveTo(out, x *[4]float64, t float64, d *[4]float64)
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// powellSingularCGCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func powellSingularCGCentralFaithfulStep(x, xt, d *[4]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(powellSingularCGCentralAbs(xt[i]-x[i]-want) <= 0.01*powellSingularCGCentralAbs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // powellSingularCGCentralCurvatureMet is the strong Wolfe curvature condition

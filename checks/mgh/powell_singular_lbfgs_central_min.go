@@ -203,11 +203,9 @@ func powellSingularLBFGSCentralMinimize(x0 [4]float64, lim PowellSingularLBFGSCe
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// powellSingularLBFGSCentralRiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// powellSingularLBFGSCentralRiseTrend, which never reports that for differences).
 			out.status = PowellSingularLBFGSCentralStepTiny
-			if found.rising && powellSingularLBFGSCentralDerivativeCost == 0 {
+			if found.rising {
 				out.status = PowellSingularLBFGSCentralNoDecrease
 			}
 			return out
@@ -510,7 +508,7 @@ func powellSingularLBFGSCentralLineSearch(x *[4]float64, fx float64, d *[4]float
 		previous := low
 		if !powellSingularLBFGSCentralFinite(current.value) || current.value > fx+powellSingularLBFGSCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, powellSingularLBFGSCentralFaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+powellSingularLBFGSCentralDerivativeCost > budget {
 				return powellSingularLBFGSCentralLineResult{calls: calls, end: powellSingularLBFGSCentralSearchOutOfBudget}
@@ -587,11 +585,16 @@ type powellSingularLBFGSCentralRiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *powellSingularLBFGSCentralRiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || powellSingularLBFGSCentralAbs(rise) <= 64*powellSingularLBFGSCentralUnitRoundoff*powellSingularLBFGSCentralAbs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *powellSingularLBFGSCentralRiseTrend) add(x, xt, d *[4]float64, t, rise, fx float64) {
+	if powellSingularLBFGSCentralDerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if powellSingularLBFGSCentralAbs(rise) <= 64*powellSingularLBFGSCentralUnitRoundoff*powellSingularLBFGSCentralAbs(fx) || !powellSingularLBFGSCentralFaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -607,6 +610,17 @@ func (r *powellSingularLBFGSCentralRiseTrend) add(t, rise, fx float64, faithful 
 // contradicts reports whether the trials showed a proportional rise.
 func (r *powellSingularLBFGSCentralRiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// powellSingularLBFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func powellSingularLBFGSCentralFaithfulStep(x, xt, d *[4]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(powellSingularLBFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*powellSingularLBFGSCentralAbs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // powellSingularLBFGSCentralTinyOrExhausted ends a search that has run below the step limit: no
@@ -643,17 +657,6 @@ func powellSingularLBFGSCentralMoveTo(out, x *[4]float64, t float64, d *[4]float
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// powellSingularLBFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func powellSingularLBFGSCentralFaithfulStep(x, xt, d *[4]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(powellSingularLBFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*powellSingularLBFGSCentralAbs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // powellSingularLBFGSCentralCurvatureMet is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)

@@ -201,11 +201,9 @@ func rosenbrockBFGSAnalyticMinimize(x0 [2]float64, lim RosenbrockBFGSAnalyticLim
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// rosenbrockBFGSAnalyticRiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// rosenbrockBFGSAnalyticRiseTrend, which never reports that for differences).
 			out.status = RosenbrockBFGSAnalyticStepTiny
-			if found.rising && rosenbrockBFGSAnalyticDerivativeCost == 0 {
+			if found.rising {
 				out.status = RosenbrockBFGSAnalyticNoDecrease
 			}
 			return out
@@ -454,7 +452,7 @@ func rosenbrockBFGSAnalyticLineSearch(x *[2]float64, fx float64, d *[2]float64, 
 		previous := low
 		if !rosenbrockBFGSAnalyticFinite(current.value) || current.value > fx+rosenbrockBFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, rosenbrockBFGSAnalyticFaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+rosenbrockBFGSAnalyticDerivativeCost > budget {
 				return rosenbrockBFGSAnalyticLineResult{calls: calls, end: rosenbrockBFGSAnalyticSearchOutOfBudget}
@@ -531,11 +529,16 @@ type rosenbrockBFGSAnalyticRiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *rosenbrockBFGSAnalyticRiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || rosenbrockBFGSAnalyticAbs(rise) <= 64*rosenbrockBFGSAnalyticUnitRoundoff*rosenbrockBFGSAnalyticAbs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *rosenbrockBFGSAnalyticRiseTrend) add(x, xt, d *[2]float64, t, rise, fx float64) {
+	if rosenbrockBFGSAnalyticDerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if rosenbrockBFGSAnalyticAbs(rise) <= 64*rosenbrockBFGSAnalyticUnitRoundoff*rosenbrockBFGSAnalyticAbs(fx) || !rosenbrockBFGSAnalyticFaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -551,6 +554,17 @@ func (r *rosenbrockBFGSAnalyticRiseTrend) add(t, rise, fx float64, faithful bool
 // contradicts reports whether the trials showed a proportional rise.
 func (r *rosenbrockBFGSAnalyticRiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// rosenbrockBFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func rosenbrockBFGSAnalyticFaithfulStep(x, xt, d *[2]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(rosenbrockBFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*rosenbrockBFGSAnalyticAbs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // rosenbrockBFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: no
@@ -587,17 +601,6 @@ func rosenbrockBFGSAnalyticMoveTo(out, x *[2]float64, t float64, d *[2]float64) 
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// rosenbrockBFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func rosenbrockBFGSAnalyticFaithfulStep(x, xt, d *[2]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(rosenbrockBFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*rosenbrockBFGSAnalyticAbs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // rosenbrockBFGSAnalyticCurvatureMet is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)

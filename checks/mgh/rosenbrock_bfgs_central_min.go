@@ -202,11 +202,9 @@ func rosenbrockBFGSCentralMinimize(x0 [2]float64, lim RosenbrockBFGSCentralLimit
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// rosenbrockBFGSCentralRiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// rosenbrockBFGSCentralRiseTrend, which never reports that for differences).
 			out.status = RosenbrockBFGSCentralStepTiny
-			if found.rising && rosenbrockBFGSCentralDerivativeCost == 0 {
+			if found.rising {
 				out.status = RosenbrockBFGSCentralNoDecrease
 			}
 			return out
@@ -482,7 +480,7 @@ func rosenbrockBFGSCentralLineSearch(x *[2]float64, fx float64, d *[2]float64, s
 		previous := low
 		if !rosenbrockBFGSCentralFinite(current.value) || current.value > fx+rosenbrockBFGSCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, rosenbrockBFGSCentralFaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+rosenbrockBFGSCentralDerivativeCost > budget {
 				return rosenbrockBFGSCentralLineResult{calls: calls, end: rosenbrockBFGSCentralSearchOutOfBudget}
@@ -559,11 +557,16 @@ type rosenbrockBFGSCentralRiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *rosenbrockBFGSCentralRiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || rosenbrockBFGSCentralAbs(rise) <= 64*rosenbrockBFGSCentralUnitRoundoff*rosenbrockBFGSCentralAbs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *rosenbrockBFGSCentralRiseTrend) add(x, xt, d *[2]float64, t, rise, fx float64) {
+	if rosenbrockBFGSCentralDerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if rosenbrockBFGSCentralAbs(rise) <= 64*rosenbrockBFGSCentralUnitRoundoff*rosenbrockBFGSCentralAbs(fx) || !rosenbrockBFGSCentralFaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -579,6 +582,17 @@ func (r *rosenbrockBFGSCentralRiseTrend) add(t, rise, fx float64, faithful bool)
 // contradicts reports whether the trials showed a proportional rise.
 func (r *rosenbrockBFGSCentralRiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// rosenbrockBFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func rosenbrockBFGSCentralFaithfulStep(x, xt, d *[2]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(rosenbrockBFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*rosenbrockBFGSCentralAbs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // rosenbrockBFGSCentralTinyOrExhausted ends a search that has run below the step limit: no
@@ -615,17 +629,6 @@ func rosenbrockBFGSCentralMoveTo(out, x *[2]float64, t float64, d *[2]float64) {
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// rosenbrockBFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func rosenbrockBFGSCentralFaithfulStep(x, xt, d *[2]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(rosenbrockBFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*rosenbrockBFGSCentralAbs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // rosenbrockBFGSCentralCurvatureMet is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)

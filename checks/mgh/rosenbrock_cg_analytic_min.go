@@ -201,11 +201,9 @@ func rosenbrockCGAnalyticMinimize(x0 [2]float64, lim RosenbrockCGAnalyticLimits)
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// rosenbrockCGAnalyticRiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// rosenbrockCGAnalyticRiseTrend, which never reports that for differences).
 			out.status = RosenbrockCGAnalyticStepTiny
-			if found.rising && rosenbrockCGAnalyticDerivativeCost == 0 {
+			if found.rising {
 				out.status = RosenbrockCGAnalyticNoDecrease
 			}
 			return out
@@ -446,7 +444,7 @@ func rosenbrockCGAnalyticLineSearch(x *[2]float64, fx float64, d *[2]float64, sl
 		previous := low
 		if !rosenbrockCGAnalyticFinite(current.value) || current.value > fx+rosenbrockCGAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, rosenbrockCGAnalyticFaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+rosenbrockCGAnalyticDerivativeCost > budget {
 				return rosenbrockCGAnalyticLineResult{calls: calls, end: rosenbrockCGAnalyticSearchOutOfBudget}
@@ -523,11 +521,16 @@ type rosenbrockCGAnalyticRiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *rosenbrockCGAnalyticRiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || rosenbrockCGAnalyticAbs(rise) <= 64*rosenbrockCGAnalyticUnitRoundoff*rosenbrockCGAnalyticAbs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *rosenbrockCGAnalyticRiseTrend) add(x, xt, d *[2]float64, t, rise, fx float64) {
+	if rosenbrockCGAnalyticDerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if rosenbrockCGAnalyticAbs(rise) <= 64*rosenbrockCGAnalyticUnitRoundoff*rosenbrockCGAnalyticAbs(fx) || !rosenbrockCGAnalyticFaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -543,6 +546,17 @@ func (r *rosenbrockCGAnalyticRiseTrend) add(t, rise, fx float64, faithful bool) 
 // contradicts reports whether the trials showed a proportional rise.
 func (r *rosenbrockCGAnalyticRiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// rosenbrockCGAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func rosenbrockCGAnalyticFaithfulStep(x, xt, d *[2]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(rosenbrockCGAnalyticAbs(xt[i]-x[i]-want) <= 0.01*rosenbrockCGAnalyticAbs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // rosenbrockCGAnalyticTinyOrExhausted ends a search that has run below the step limit: no
@@ -579,17 +593,6 @@ func rosenbrockCGAnalyticMoveTo(out, x *[2]float64, t float64, d *[2]float64) {
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// rosenbrockCGAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func rosenbrockCGAnalyticFaithfulStep(x, xt, d *[2]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(rosenbrockCGAnalyticAbs(xt[i]-x[i]-want) <= 0.01*rosenbrockCGAnalyticAbs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // rosenbrockCGAnalyticCurvatureMet is the strong Wolfe curvature condition

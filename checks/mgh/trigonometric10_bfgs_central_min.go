@@ -202,11 +202,9 @@ func trigonometric10BFGSCentralMinimize(x0 [10]float64, lim Trigonometric10BFGSC
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// trigonometric10BFGSCentralRiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// trigonometric10BFGSCentralRiseTrend, which never reports that for differences).
 			out.status = Trigonometric10BFGSCentralStepTiny
-			if found.rising && trigonometric10BFGSCentralDerivativeCost == 0 {
+			if found.rising {
 				out.status = Trigonometric10BFGSCentralNoDecrease
 			}
 			return out
@@ -482,7 +480,7 @@ func trigonometric10BFGSCentralLineSearch(x *[10]float64, fx float64, d *[10]flo
 		previous := low
 		if !trigonometric10BFGSCentralFinite(current.value) || current.value > fx+trigonometric10BFGSCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, trigonometric10BFGSCentralFaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+trigonometric10BFGSCentralDerivativeCost > budget {
 				return trigonometric10BFGSCentralLineResult{calls: calls, end: trigonometric10BFGSCentralSearchOutOfBudget}
@@ -559,11 +557,16 @@ type trigonometric10BFGSCentralRiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *trigonometric10BFGSCentralRiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || trigonometric10BFGSCentralAbs(rise) <= 64*trigonometric10BFGSCentralUnitRoundoff*trigonometric10BFGSCentralAbs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *trigonometric10BFGSCentralRiseTrend) add(x, xt, d *[10]float64, t, rise, fx float64) {
+	if trigonometric10BFGSCentralDerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if trigonometric10BFGSCentralAbs(rise) <= 64*trigonometric10BFGSCentralUnitRoundoff*trigonometric10BFGSCentralAbs(fx) || !trigonometric10BFGSCentralFaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -579,6 +582,17 @@ func (r *trigonometric10BFGSCentralRiseTrend) add(t, rise, fx float64, faithful 
 // contradicts reports whether the trials showed a proportional rise.
 func (r *trigonometric10BFGSCentralRiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// trigonometric10BFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func trigonometric10BFGSCentralFaithfulStep(x, xt, d *[10]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(trigonometric10BFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*trigonometric10BFGSCentralAbs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // trigonometric10BFGSCentralTinyOrExhausted ends a search that has run below the step limit: no
@@ -615,17 +629,6 @@ func trigonometric10BFGSCentralMoveTo(out, x *[10]float64, t float64, d *[10]flo
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// trigonometric10BFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func trigonometric10BFGSCentralFaithfulStep(x, xt, d *[10]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(trigonometric10BFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*trigonometric10BFGSCentralAbs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // trigonometric10BFGSCentralCurvatureMet is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)

@@ -203,11 +203,9 @@ func trigonometric10LBFGSCentralMinimize(x0 [10]float64, lim Trigonometric10LBFG
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// trigonometric10LBFGSCentralRiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// trigonometric10LBFGSCentralRiseTrend, which never reports that for differences).
 			out.status = Trigonometric10LBFGSCentralStepTiny
-			if found.rising && trigonometric10LBFGSCentralDerivativeCost == 0 {
+			if found.rising {
 				out.status = Trigonometric10LBFGSCentralNoDecrease
 			}
 			return out
@@ -510,7 +508,7 @@ func trigonometric10LBFGSCentralLineSearch(x *[10]float64, fx float64, d *[10]fl
 		previous := low
 		if !trigonometric10LBFGSCentralFinite(current.value) || current.value > fx+trigonometric10LBFGSCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, trigonometric10LBFGSCentralFaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+trigonometric10LBFGSCentralDerivativeCost > budget {
 				return trigonometric10LBFGSCentralLineResult{calls: calls, end: trigonometric10LBFGSCentralSearchOutOfBudget}
@@ -587,11 +585,16 @@ type trigonometric10LBFGSCentralRiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *trigonometric10LBFGSCentralRiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || trigonometric10LBFGSCentralAbs(rise) <= 64*trigonometric10LBFGSCentralUnitRoundoff*trigonometric10LBFGSCentralAbs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *trigonometric10LBFGSCentralRiseTrend) add(x, xt, d *[10]float64, t, rise, fx float64) {
+	if trigonometric10LBFGSCentralDerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if trigonometric10LBFGSCentralAbs(rise) <= 64*trigonometric10LBFGSCentralUnitRoundoff*trigonometric10LBFGSCentralAbs(fx) || !trigonometric10LBFGSCentralFaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -607,6 +610,17 @@ func (r *trigonometric10LBFGSCentralRiseTrend) add(t, rise, fx float64, faithful
 // contradicts reports whether the trials showed a proportional rise.
 func (r *trigonometric10LBFGSCentralRiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// trigonometric10LBFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func trigonometric10LBFGSCentralFaithfulStep(x, xt, d *[10]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(trigonometric10LBFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*trigonometric10LBFGSCentralAbs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // trigonometric10LBFGSCentralTinyOrExhausted ends a search that has run below the step limit: no
@@ -643,17 +657,6 @@ func trigonometric10LBFGSCentralMoveTo(out, x *[10]float64, t float64, d *[10]fl
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// trigonometric10LBFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func trigonometric10LBFGSCentralFaithfulStep(x, xt, d *[10]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(trigonometric10LBFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*trigonometric10LBFGSCentralAbs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // trigonometric10LBFGSCentralCurvatureMet is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)

@@ -201,11 +201,9 @@ func variablyDimensioned10BFGSAnalyticMinimize(x0 [10]float64, lim VariablyDimen
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// variablyDimensioned10BFGSAnalyticRiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// variablyDimensioned10BFGSAnalyticRiseTrend, which never reports that for differences).
 			out.status = VariablyDimensioned10BFGSAnalyticStepTiny
-			if found.rising && variablyDimensioned10BFGSAnalyticDerivativeCost == 0 {
+			if found.rising {
 				out.status = VariablyDimensioned10BFGSAnalyticNoDecrease
 			}
 			return out
@@ -454,7 +452,7 @@ func variablyDimensioned10BFGSAnalyticLineSearch(x *[10]float64, fx float64, d *
 		previous := low
 		if !variablyDimensioned10BFGSAnalyticFinite(current.value) || current.value > fx+variablyDimensioned10BFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, variablyDimensioned10BFGSAnalyticFaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+variablyDimensioned10BFGSAnalyticDerivativeCost > budget {
 				return variablyDimensioned10BFGSAnalyticLineResult{calls: calls, end: variablyDimensioned10BFGSAnalyticSearchOutOfBudget}
@@ -531,11 +529,16 @@ type variablyDimensioned10BFGSAnalyticRiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *variablyDimensioned10BFGSAnalyticRiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || variablyDimensioned10BFGSAnalyticAbs(rise) <= 64*variablyDimensioned10BFGSAnalyticUnitRoundoff*variablyDimensioned10BFGSAnalyticAbs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *variablyDimensioned10BFGSAnalyticRiseTrend) add(x, xt, d *[10]float64, t, rise, fx float64) {
+	if variablyDimensioned10BFGSAnalyticDerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if variablyDimensioned10BFGSAnalyticAbs(rise) <= 64*variablyDimensioned10BFGSAnalyticUnitRoundoff*variablyDimensioned10BFGSAnalyticAbs(fx) || !variablyDimensioned10BFGSAnalyticFaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -551,6 +554,17 @@ func (r *variablyDimensioned10BFGSAnalyticRiseTrend) add(t, rise, fx float64, fa
 // contradicts reports whether the trials showed a proportional rise.
 func (r *variablyDimensioned10BFGSAnalyticRiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// variablyDimensioned10BFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func variablyDimensioned10BFGSAnalyticFaithfulStep(x, xt, d *[10]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(variablyDimensioned10BFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*variablyDimensioned10BFGSAnalyticAbs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // variablyDimensioned10BFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: no
@@ -587,17 +601,6 @@ func variablyDimensioned10BFGSAnalyticMoveTo(out, x *[10]float64, t float64, d *
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// variablyDimensioned10BFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func variablyDimensioned10BFGSAnalyticFaithfulStep(x, xt, d *[10]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(variablyDimensioned10BFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*variablyDimensioned10BFGSAnalyticAbs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // variablyDimensioned10BFGSAnalyticCurvatureMet is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)

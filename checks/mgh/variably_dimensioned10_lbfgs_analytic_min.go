@@ -202,11 +202,9 @@ func variablyDimensioned10LBFGSAnalyticMinimize(x0 [10]float64, lim VariablyDime
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// variablyDimensioned10LBFGSAnalyticRiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// variablyDimensioned10LBFGSAnalyticRiseTrend, which never reports that for differences).
 			out.status = VariablyDimensioned10LBFGSAnalyticStepTiny
-			if found.rising && variablyDimensioned10LBFGSAnalyticDerivativeCost == 0 {
+			if found.rising {
 				out.status = VariablyDimensioned10LBFGSAnalyticNoDecrease
 			}
 			return out
@@ -482,7 +480,7 @@ func variablyDimensioned10LBFGSAnalyticLineSearch(x *[10]float64, fx float64, d 
 		previous := low
 		if !variablyDimensioned10LBFGSAnalyticFinite(current.value) || current.value > fx+variablyDimensioned10LBFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, variablyDimensioned10LBFGSAnalyticFaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+variablyDimensioned10LBFGSAnalyticDerivativeCost > budget {
 				return variablyDimensioned10LBFGSAnalyticLineResult{calls: calls, end: variablyDimensioned10LBFGSAnalyticSearchOutOfBudget}
@@ -559,11 +557,16 @@ type variablyDimensioned10LBFGSAnalyticRiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *variablyDimensioned10LBFGSAnalyticRiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || variablyDimensioned10LBFGSAnalyticAbs(rise) <= 64*variablyDimensioned10LBFGSAnalyticUnitRoundoff*variablyDimensioned10LBFGSAnalyticAbs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *variablyDimensioned10LBFGSAnalyticRiseTrend) add(x, xt, d *[10]float64, t, rise, fx float64) {
+	if variablyDimensioned10LBFGSAnalyticDerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if variablyDimensioned10LBFGSAnalyticAbs(rise) <= 64*variablyDimensioned10LBFGSAnalyticUnitRoundoff*variablyDimensioned10LBFGSAnalyticAbs(fx) || !variablyDimensioned10LBFGSAnalyticFaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -579,6 +582,17 @@ func (r *variablyDimensioned10LBFGSAnalyticRiseTrend) add(t, rise, fx float64, f
 // contradicts reports whether the trials showed a proportional rise.
 func (r *variablyDimensioned10LBFGSAnalyticRiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// variablyDimensioned10LBFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func variablyDimensioned10LBFGSAnalyticFaithfulStep(x, xt, d *[10]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(variablyDimensioned10LBFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*variablyDimensioned10LBFGSAnalyticAbs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // variablyDimensioned10LBFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: no
@@ -615,17 +629,6 @@ func variablyDimensioned10LBFGSAnalyticMoveTo(out, x *[10]float64, t float64, d 
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// variablyDimensioned10LBFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func variablyDimensioned10LBFGSAnalyticFaithfulStep(x, xt, d *[10]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(variablyDimensioned10LBFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*variablyDimensioned10LBFGSAnalyticAbs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // variablyDimensioned10LBFGSAnalyticCurvatureMet is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)

@@ -203,11 +203,9 @@ func variablyDimensioned10LBFGSCentralMinimize(x0 [10]float64, lim VariablyDimen
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// variablyDimensioned10LBFGSCentralRiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// variablyDimensioned10LBFGSCentralRiseTrend, which never reports that for differences).
 			out.status = VariablyDimensioned10LBFGSCentralStepTiny
-			if found.rising && variablyDimensioned10LBFGSCentralDerivativeCost == 0 {
+			if found.rising {
 				out.status = VariablyDimensioned10LBFGSCentralNoDecrease
 			}
 			return out
@@ -510,7 +508,7 @@ func variablyDimensioned10LBFGSCentralLineSearch(x *[10]float64, fx float64, d *
 		previous := low
 		if !variablyDimensioned10LBFGSCentralFinite(current.value) || current.value > fx+variablyDimensioned10LBFGSCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, variablyDimensioned10LBFGSCentralFaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+variablyDimensioned10LBFGSCentralDerivativeCost > budget {
 				return variablyDimensioned10LBFGSCentralLineResult{calls: calls, end: variablyDimensioned10LBFGSCentralSearchOutOfBudget}
@@ -587,11 +585,16 @@ type variablyDimensioned10LBFGSCentralRiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *variablyDimensioned10LBFGSCentralRiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || variablyDimensioned10LBFGSCentralAbs(rise) <= 64*variablyDimensioned10LBFGSCentralUnitRoundoff*variablyDimensioned10LBFGSCentralAbs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *variablyDimensioned10LBFGSCentralRiseTrend) add(x, xt, d *[10]float64, t, rise, fx float64) {
+	if variablyDimensioned10LBFGSCentralDerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if variablyDimensioned10LBFGSCentralAbs(rise) <= 64*variablyDimensioned10LBFGSCentralUnitRoundoff*variablyDimensioned10LBFGSCentralAbs(fx) || !variablyDimensioned10LBFGSCentralFaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -607,6 +610,17 @@ func (r *variablyDimensioned10LBFGSCentralRiseTrend) add(t, rise, fx float64, fa
 // contradicts reports whether the trials showed a proportional rise.
 func (r *variablyDimensioned10LBFGSCentralRiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// variablyDimensioned10LBFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func variablyDimensioned10LBFGSCentralFaithfulStep(x, xt, d *[10]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(variablyDimensioned10LBFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*variablyDimensioned10LBFGSCentralAbs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // variablyDimensioned10LBFGSCentralTinyOrExhausted ends a search that has run below the step limit: no
@@ -643,17 +657,6 @@ func variablyDimensioned10LBFGSCentralMoveTo(out, x *[10]float64, t float64, d *
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// variablyDimensioned10LBFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func variablyDimensioned10LBFGSCentralFaithfulStep(x, xt, d *[10]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(variablyDimensioned10LBFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*variablyDimensioned10LBFGSCentralAbs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // variablyDimensioned10LBFGSCentralCurvatureMet is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)

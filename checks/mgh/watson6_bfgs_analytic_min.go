@@ -201,11 +201,9 @@ func watson6BFGSAnalyticMinimize(x0 [6]float64, lim Watson6BFGSAnalyticLimits) w
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// watson6BFGSAnalyticRiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// watson6BFGSAnalyticRiseTrend, which never reports that for differences).
 			out.status = Watson6BFGSAnalyticStepTiny
-			if found.rising && watson6BFGSAnalyticDerivativeCost == 0 {
+			if found.rising {
 				out.status = Watson6BFGSAnalyticNoDecrease
 			}
 			return out
@@ -454,7 +452,7 @@ func watson6BFGSAnalyticLineSearch(x *[6]float64, fx float64, d *[6]float64, slo
 		previous := low
 		if !watson6BFGSAnalyticFinite(current.value) || current.value > fx+watson6BFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, watson6BFGSAnalyticFaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+watson6BFGSAnalyticDerivativeCost > budget {
 				return watson6BFGSAnalyticLineResult{calls: calls, end: watson6BFGSAnalyticSearchOutOfBudget}
@@ -531,11 +529,16 @@ type watson6BFGSAnalyticRiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *watson6BFGSAnalyticRiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || watson6BFGSAnalyticAbs(rise) <= 64*watson6BFGSAnalyticUnitRoundoff*watson6BFGSAnalyticAbs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *watson6BFGSAnalyticRiseTrend) add(x, xt, d *[6]float64, t, rise, fx float64) {
+	if watson6BFGSAnalyticDerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if watson6BFGSAnalyticAbs(rise) <= 64*watson6BFGSAnalyticUnitRoundoff*watson6BFGSAnalyticAbs(fx) || !watson6BFGSAnalyticFaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -551,6 +554,17 @@ func (r *watson6BFGSAnalyticRiseTrend) add(t, rise, fx float64, faithful bool) {
 // contradicts reports whether the trials showed a proportional rise.
 func (r *watson6BFGSAnalyticRiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// watson6BFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func watson6BFGSAnalyticFaithfulStep(x, xt, d *[6]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(watson6BFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*watson6BFGSAnalyticAbs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // watson6BFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: no
@@ -587,17 +601,6 @@ func watson6BFGSAnalyticMoveTo(out, x *[6]float64, t float64, d *[6]float64) {
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// watson6BFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func watson6BFGSAnalyticFaithfulStep(x, xt, d *[6]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(watson6BFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*watson6BFGSAnalyticAbs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // watson6BFGSAnalyticCurvatureMet is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)

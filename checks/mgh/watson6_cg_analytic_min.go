@@ -201,11 +201,9 @@ func watson6CGAnalyticMinimize(x0 [6]float64, lim Watson6CGAnalyticLimits) watso
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// watson6CGAnalyticRiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// watson6CGAnalyticRiseTrend, which never reports that for differences).
 			out.status = Watson6CGAnalyticStepTiny
-			if found.rising && watson6CGAnalyticDerivativeCost == 0 {
+			if found.rising {
 				out.status = Watson6CGAnalyticNoDecrease
 			}
 			return out
@@ -446,7 +444,7 @@ func watson6CGAnalyticLineSearch(x *[6]float64, fx float64, d *[6]float64, slope
 		previous := low
 		if !watson6CGAnalyticFinite(current.value) || current.value > fx+watson6CGAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, watson6CGAnalyticFaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+watson6CGAnalyticDerivativeCost > budget {
 				return watson6CGAnalyticLineResult{calls: calls, end: watson6CGAnalyticSearchOutOfBudget}
@@ -523,11 +521,16 @@ type watson6CGAnalyticRiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *watson6CGAnalyticRiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || watson6CGAnalyticAbs(rise) <= 64*watson6CGAnalyticUnitRoundoff*watson6CGAnalyticAbs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *watson6CGAnalyticRiseTrend) add(x, xt, d *[6]float64, t, rise, fx float64) {
+	if watson6CGAnalyticDerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if watson6CGAnalyticAbs(rise) <= 64*watson6CGAnalyticUnitRoundoff*watson6CGAnalyticAbs(fx) || !watson6CGAnalyticFaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -543,6 +546,17 @@ func (r *watson6CGAnalyticRiseTrend) add(t, rise, fx float64, faithful bool) {
 // contradicts reports whether the trials showed a proportional rise.
 func (r *watson6CGAnalyticRiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// watson6CGAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func watson6CGAnalyticFaithfulStep(x, xt, d *[6]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(watson6CGAnalyticAbs(xt[i]-x[i]-want) <= 0.01*watson6CGAnalyticAbs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // watson6CGAnalyticTinyOrExhausted ends a search that has run below the step limit: no
@@ -579,17 +593,6 @@ func watson6CGAnalyticMoveTo(out, x *[6]float64, t float64, d *[6]float64) {
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// watson6CGAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func watson6CGAnalyticFaithfulStep(x, xt, d *[6]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(watson6CGAnalyticAbs(xt[i]-x[i]-want) <= 0.01*watson6CGAnalyticAbs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // watson6CGAnalyticCurvatureMet is the strong Wolfe curvature condition

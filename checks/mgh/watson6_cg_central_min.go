@@ -202,11 +202,9 @@ func watson6CGCentralMinimize(x0 [6]float64, lim Watson6CGCentralLimits) watson6
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// watson6CGCentralRiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// watson6CGCentralRiseTrend, which never reports that for differences).
 			out.status = Watson6CGCentralStepTiny
-			if found.rising && watson6CGCentralDerivativeCost == 0 {
+			if found.rising {
 				out.status = Watson6CGCentralNoDecrease
 			}
 			return out
@@ -464,7 +462,7 @@ func watson6CGCentralLineSearch(x *[6]float64, fx float64, d *[6]float64, slope,
 		previous := low
 		if !watson6CGCentralFinite(current.value) || current.value > fx+watson6CGCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, watson6CGCentralFaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+watson6CGCentralDerivativeCost > budget {
 				return watson6CGCentralLineResult{calls: calls, end: watson6CGCentralSearchOutOfBudget}
@@ -541,11 +539,16 @@ type watson6CGCentralRiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *watson6CGCentralRiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || watson6CGCentralAbs(rise) <= 64*watson6CGCentralUnitRoundoff*watson6CGCentralAbs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *watson6CGCentralRiseTrend) add(x, xt, d *[6]float64, t, rise, fx float64) {
+	if watson6CGCentralDerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if watson6CGCentralAbs(rise) <= 64*watson6CGCentralUnitRoundoff*watson6CGCentralAbs(fx) || !watson6CGCentralFaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -561,6 +564,17 @@ func (r *watson6CGCentralRiseTrend) add(t, rise, fx float64, faithful bool) {
 // contradicts reports whether the trials showed a proportional rise.
 func (r *watson6CGCentralRiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// watson6CGCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func watson6CGCentralFaithfulStep(x, xt, d *[6]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(watson6CGCentralAbs(xt[i]-x[i]-want) <= 0.01*watson6CGCentralAbs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // watson6CGCentralTinyOrExhausted ends a search that has run below the step limit: no
@@ -597,17 +611,6 @@ func watson6CGCentralMoveTo(out, x *[6]float64, t float64, d *[6]float64) {
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// watson6CGCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func watson6CGCentralFaithfulStep(x, xt, d *[6]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(watson6CGCentralAbs(xt[i]-x[i]-want) <= 0.01*watson6CGCentralAbs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // watson6CGCentralCurvatureMet is the strong Wolfe curvature condition

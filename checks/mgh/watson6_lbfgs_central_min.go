@@ -203,11 +203,9 @@ func watson6LBFGSCentralMinimize(x0 [6]float64, lim Watson6LBFGSCentralLimits) w
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// watson6LBFGSCentralRiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// watson6LBFGSCentralRiseTrend, which never reports that for differences).
 			out.status = Watson6LBFGSCentralStepTiny
-			if found.rising && watson6LBFGSCentralDerivativeCost == 0 {
+			if found.rising {
 				out.status = Watson6LBFGSCentralNoDecrease
 			}
 			return out
@@ -510,7 +508,7 @@ func watson6LBFGSCentralLineSearch(x *[6]float64, fx float64, d *[6]float64, slo
 		previous := low
 		if !watson6LBFGSCentralFinite(current.value) || current.value > fx+watson6LBFGSCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, watson6LBFGSCentralFaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+watson6LBFGSCentralDerivativeCost > budget {
 				return watson6LBFGSCentralLineResult{calls: calls, end: watson6LBFGSCentralSearchOutOfBudget}
@@ -587,11 +585,16 @@ type watson6LBFGSCentralRiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *watson6LBFGSCentralRiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || watson6LBFGSCentralAbs(rise) <= 64*watson6LBFGSCentralUnitRoundoff*watson6LBFGSCentralAbs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *watson6LBFGSCentralRiseTrend) add(x, xt, d *[6]float64, t, rise, fx float64) {
+	if watson6LBFGSCentralDerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if watson6LBFGSCentralAbs(rise) <= 64*watson6LBFGSCentralUnitRoundoff*watson6LBFGSCentralAbs(fx) || !watson6LBFGSCentralFaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -607,6 +610,17 @@ func (r *watson6LBFGSCentralRiseTrend) add(t, rise, fx float64, faithful bool) {
 // contradicts reports whether the trials showed a proportional rise.
 func (r *watson6LBFGSCentralRiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// watson6LBFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func watson6LBFGSCentralFaithfulStep(x, xt, d *[6]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(watson6LBFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*watson6LBFGSCentralAbs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // watson6LBFGSCentralTinyOrExhausted ends a search that has run below the step limit: no
@@ -643,17 +657,6 @@ func watson6LBFGSCentralMoveTo(out, x *[6]float64, t float64, d *[6]float64) {
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// watson6LBFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func watson6LBFGSCentralFaithfulStep(x, xt, d *[6]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(watson6LBFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*watson6LBFGSCentralAbs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // watson6LBFGSCentralCurvatureMet is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)

@@ -202,11 +202,9 @@ func watson9BFGSCentralMinimize(x0 [9]float64, lim Watson9BFGSCentralLimits) wat
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// watson9BFGSCentralRiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// watson9BFGSCentralRiseTrend, which never reports that for differences).
 			out.status = Watson9BFGSCentralStepTiny
-			if found.rising && watson9BFGSCentralDerivativeCost == 0 {
+			if found.rising {
 				out.status = Watson9BFGSCentralNoDecrease
 			}
 			return out
@@ -482,7 +480,7 @@ func watson9BFGSCentralLineSearch(x *[9]float64, fx float64, d *[9]float64, slop
 		previous := low
 		if !watson9BFGSCentralFinite(current.value) || current.value > fx+watson9BFGSCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, watson9BFGSCentralFaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+watson9BFGSCentralDerivativeCost > budget {
 				return watson9BFGSCentralLineResult{calls: calls, end: watson9BFGSCentralSearchOutOfBudget}
@@ -559,11 +557,16 @@ type watson9BFGSCentralRiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *watson9BFGSCentralRiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || watson9BFGSCentralAbs(rise) <= 64*watson9BFGSCentralUnitRoundoff*watson9BFGSCentralAbs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *watson9BFGSCentralRiseTrend) add(x, xt, d *[9]float64, t, rise, fx float64) {
+	if watson9BFGSCentralDerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if watson9BFGSCentralAbs(rise) <= 64*watson9BFGSCentralUnitRoundoff*watson9BFGSCentralAbs(fx) || !watson9BFGSCentralFaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -579,6 +582,17 @@ func (r *watson9BFGSCentralRiseTrend) add(t, rise, fx float64, faithful bool) {
 // contradicts reports whether the trials showed a proportional rise.
 func (r *watson9BFGSCentralRiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// watson9BFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func watson9BFGSCentralFaithfulStep(x, xt, d *[9]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(watson9BFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*watson9BFGSCentralAbs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // watson9BFGSCentralTinyOrExhausted ends a search that has run below the step limit: no
@@ -615,17 +629,6 @@ func watson9BFGSCentralMoveTo(out, x *[9]float64, t float64, d *[9]float64) {
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// watson9BFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func watson9BFGSCentralFaithfulStep(x, xt, d *[9]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(watson9BFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*watson9BFGSCentralAbs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // watson9BFGSCentralCurvatureMet is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)

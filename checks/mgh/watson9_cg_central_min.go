@@ -202,11 +202,9 @@ func watson9CGCentralMinimize(x0 [9]float64, lim Watson9CGCentralLimits) watson9
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// watson9CGCentralRiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// watson9CGCentralRiseTrend, which never reports that for differences).
 			out.status = Watson9CGCentralStepTiny
-			if found.rising && watson9CGCentralDerivativeCost == 0 {
+			if found.rising {
 				out.status = Watson9CGCentralNoDecrease
 			}
 			return out
@@ -464,7 +462,7 @@ func watson9CGCentralLineSearch(x *[9]float64, fx float64, d *[9]float64, slope,
 		previous := low
 		if !watson9CGCentralFinite(current.value) || current.value > fx+watson9CGCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, watson9CGCentralFaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+watson9CGCentralDerivativeCost > budget {
 				return watson9CGCentralLineResult{calls: calls, end: watson9CGCentralSearchOutOfBudget}
@@ -541,11 +539,16 @@ type watson9CGCentralRiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *watson9CGCentralRiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || watson9CGCentralAbs(rise) <= 64*watson9CGCentralUnitRoundoff*watson9CGCentralAbs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *watson9CGCentralRiseTrend) add(x, xt, d *[9]float64, t, rise, fx float64) {
+	if watson9CGCentralDerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if watson9CGCentralAbs(rise) <= 64*watson9CGCentralUnitRoundoff*watson9CGCentralAbs(fx) || !watson9CGCentralFaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -561,6 +564,17 @@ func (r *watson9CGCentralRiseTrend) add(t, rise, fx float64, faithful bool) {
 // contradicts reports whether the trials showed a proportional rise.
 func (r *watson9CGCentralRiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// watson9CGCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func watson9CGCentralFaithfulStep(x, xt, d *[9]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(watson9CGCentralAbs(xt[i]-x[i]-want) <= 0.01*watson9CGCentralAbs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // watson9CGCentralTinyOrExhausted ends a search that has run below the step limit: no
@@ -597,17 +611,6 @@ func watson9CGCentralMoveTo(out, x *[9]float64, t float64, d *[9]float64) {
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// watson9CGCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func watson9CGCentralFaithfulStep(x, xt, d *[9]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(watson9CGCentralAbs(xt[i]-x[i]-want) <= 0.01*watson9CGCentralAbs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // watson9CGCentralCurvatureMet is the strong Wolfe curvature condition

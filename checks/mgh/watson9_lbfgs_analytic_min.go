@@ -202,11 +202,9 @@ func watson9LBFGSAnalyticMinimize(x0 [9]float64, lim Watson9LBFGSAnalyticLimits)
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// watson9LBFGSAnalyticRiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// watson9LBFGSAnalyticRiseTrend, which never reports that for differences).
 			out.status = Watson9LBFGSAnalyticStepTiny
-			if found.rising && watson9LBFGSAnalyticDerivativeCost == 0 {
+			if found.rising {
 				out.status = Watson9LBFGSAnalyticNoDecrease
 			}
 			return out
@@ -482,7 +480,7 @@ func watson9LBFGSAnalyticLineSearch(x *[9]float64, fx float64, d *[9]float64, sl
 		previous := low
 		if !watson9LBFGSAnalyticFinite(current.value) || current.value > fx+watson9LBFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, watson9LBFGSAnalyticFaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+watson9LBFGSAnalyticDerivativeCost > budget {
 				return watson9LBFGSAnalyticLineResult{calls: calls, end: watson9LBFGSAnalyticSearchOutOfBudget}
@@ -559,11 +557,16 @@ type watson9LBFGSAnalyticRiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *watson9LBFGSAnalyticRiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || watson9LBFGSAnalyticAbs(rise) <= 64*watson9LBFGSAnalyticUnitRoundoff*watson9LBFGSAnalyticAbs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *watson9LBFGSAnalyticRiseTrend) add(x, xt, d *[9]float64, t, rise, fx float64) {
+	if watson9LBFGSAnalyticDerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if watson9LBFGSAnalyticAbs(rise) <= 64*watson9LBFGSAnalyticUnitRoundoff*watson9LBFGSAnalyticAbs(fx) || !watson9LBFGSAnalyticFaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -579,6 +582,17 @@ func (r *watson9LBFGSAnalyticRiseTrend) add(t, rise, fx float64, faithful bool) 
 // contradicts reports whether the trials showed a proportional rise.
 func (r *watson9LBFGSAnalyticRiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// watson9LBFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func watson9LBFGSAnalyticFaithfulStep(x, xt, d *[9]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(watson9LBFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*watson9LBFGSAnalyticAbs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // watson9LBFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: no
@@ -615,17 +629,6 @@ func watson9LBFGSAnalyticMoveTo(out, x *[9]float64, t float64, d *[9]float64) {
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// watson9LBFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func watson9LBFGSAnalyticFaithfulStep(x, xt, d *[9]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(watson9LBFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*watson9LBFGSAnalyticAbs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // watson9LBFGSAnalyticCurvatureMet is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)

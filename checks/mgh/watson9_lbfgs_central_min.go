@@ -203,11 +203,9 @@ func watson9LBFGSCentralMinimize(x0 [9]float64, lim Watson9LBFGSCentralLimits) w
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// watson9LBFGSCentralRiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// watson9LBFGSCentralRiseTrend, which never reports that for differences).
 			out.status = Watson9LBFGSCentralStepTiny
-			if found.rising && watson9LBFGSCentralDerivativeCost == 0 {
+			if found.rising {
 				out.status = Watson9LBFGSCentralNoDecrease
 			}
 			return out
@@ -510,7 +508,7 @@ func watson9LBFGSCentralLineSearch(x *[9]float64, fx float64, d *[9]float64, slo
 		previous := low
 		if !watson9LBFGSCentralFinite(current.value) || current.value > fx+watson9LBFGSCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, watson9LBFGSCentralFaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+watson9LBFGSCentralDerivativeCost > budget {
 				return watson9LBFGSCentralLineResult{calls: calls, end: watson9LBFGSCentralSearchOutOfBudget}
@@ -587,11 +585,16 @@ type watson9LBFGSCentralRiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *watson9LBFGSCentralRiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || watson9LBFGSCentralAbs(rise) <= 64*watson9LBFGSCentralUnitRoundoff*watson9LBFGSCentralAbs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *watson9LBFGSCentralRiseTrend) add(x, xt, d *[9]float64, t, rise, fx float64) {
+	if watson9LBFGSCentralDerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if watson9LBFGSCentralAbs(rise) <= 64*watson9LBFGSCentralUnitRoundoff*watson9LBFGSCentralAbs(fx) || !watson9LBFGSCentralFaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -607,6 +610,17 @@ func (r *watson9LBFGSCentralRiseTrend) add(t, rise, fx float64, faithful bool) {
 // contradicts reports whether the trials showed a proportional rise.
 func (r *watson9LBFGSCentralRiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// watson9LBFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func watson9LBFGSCentralFaithfulStep(x, xt, d *[9]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(watson9LBFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*watson9LBFGSCentralAbs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // watson9LBFGSCentralTinyOrExhausted ends a search that has run below the step limit: no
@@ -643,17 +657,6 @@ func watson9LBFGSCentralMoveTo(out, x *[9]float64, t float64, d *[9]float64) {
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// watson9LBFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func watson9LBFGSCentralFaithfulStep(x, xt, d *[9]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(watson9LBFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*watson9LBFGSCentralAbs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // watson9LBFGSCentralCurvatureMet is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)

@@ -201,11 +201,9 @@ func woodBFGSAnalyticMinimize(x0 [4]float64, lim WoodBFGSAnalyticLimits) woodBFG
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// woodBFGSAnalyticRiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// woodBFGSAnalyticRiseTrend, which never reports that for differences).
 			out.status = WoodBFGSAnalyticStepTiny
-			if found.rising && woodBFGSAnalyticDerivativeCost == 0 {
+			if found.rising {
 				out.status = WoodBFGSAnalyticNoDecrease
 			}
 			return out
@@ -454,7 +452,7 @@ func woodBFGSAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64, slope,
 		previous := low
 		if !woodBFGSAnalyticFinite(current.value) || current.value > fx+woodBFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, woodBFGSAnalyticFaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+woodBFGSAnalyticDerivativeCost > budget {
 				return woodBFGSAnalyticLineResult{calls: calls, end: woodBFGSAnalyticSearchOutOfBudget}
@@ -531,11 +529,16 @@ type woodBFGSAnalyticRiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *woodBFGSAnalyticRiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || woodBFGSAnalyticAbs(rise) <= 64*woodBFGSAnalyticUnitRoundoff*woodBFGSAnalyticAbs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *woodBFGSAnalyticRiseTrend) add(x, xt, d *[4]float64, t, rise, fx float64) {
+	if woodBFGSAnalyticDerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if woodBFGSAnalyticAbs(rise) <= 64*woodBFGSAnalyticUnitRoundoff*woodBFGSAnalyticAbs(fx) || !woodBFGSAnalyticFaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -551,6 +554,17 @@ func (r *woodBFGSAnalyticRiseTrend) add(t, rise, fx float64, faithful bool) {
 // contradicts reports whether the trials showed a proportional rise.
 func (r *woodBFGSAnalyticRiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// woodBFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func woodBFGSAnalyticFaithfulStep(x, xt, d *[4]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(woodBFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*woodBFGSAnalyticAbs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // woodBFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: no
@@ -587,17 +601,6 @@ func woodBFGSAnalyticMoveTo(out, x *[4]float64, t float64, d *[4]float64) {
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// woodBFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func woodBFGSAnalyticFaithfulStep(x, xt, d *[4]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(woodBFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*woodBFGSAnalyticAbs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // woodBFGSAnalyticCurvatureMet is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)

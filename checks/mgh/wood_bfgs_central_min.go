@@ -202,11 +202,9 @@ func woodBFGSCentralMinimize(x0 [4]float64, lim WoodBFGSCentralLimits) woodBFGSC
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// woodBFGSCentralRiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// woodBFGSCentralRiseTrend, which never reports that for differences).
 			out.status = WoodBFGSCentralStepTiny
-			if found.rising && woodBFGSCentralDerivativeCost == 0 {
+			if found.rising {
 				out.status = WoodBFGSCentralNoDecrease
 			}
 			return out
@@ -482,7 +480,7 @@ func woodBFGSCentralLineSearch(x *[4]float64, fx float64, d *[4]float64, slope, 
 		previous := low
 		if !woodBFGSCentralFinite(current.value) || current.value > fx+woodBFGSCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, woodBFGSCentralFaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+woodBFGSCentralDerivativeCost > budget {
 				return woodBFGSCentralLineResult{calls: calls, end: woodBFGSCentralSearchOutOfBudget}
@@ -559,11 +557,16 @@ type woodBFGSCentralRiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *woodBFGSCentralRiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || woodBFGSCentralAbs(rise) <= 64*woodBFGSCentralUnitRoundoff*woodBFGSCentralAbs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *woodBFGSCentralRiseTrend) add(x, xt, d *[4]float64, t, rise, fx float64) {
+	if woodBFGSCentralDerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if woodBFGSCentralAbs(rise) <= 64*woodBFGSCentralUnitRoundoff*woodBFGSCentralAbs(fx) || !woodBFGSCentralFaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -579,6 +582,17 @@ func (r *woodBFGSCentralRiseTrend) add(t, rise, fx float64, faithful bool) {
 // contradicts reports whether the trials showed a proportional rise.
 func (r *woodBFGSCentralRiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// woodBFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func woodBFGSCentralFaithfulStep(x, xt, d *[4]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(woodBFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*woodBFGSCentralAbs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // woodBFGSCentralTinyOrExhausted ends a search that has run below the step limit: no
@@ -615,17 +629,6 @@ func woodBFGSCentralMoveTo(out, x *[4]float64, t float64, d *[4]float64) {
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// woodBFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func woodBFGSCentralFaithfulStep(x, xt, d *[4]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(woodBFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*woodBFGSCentralAbs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // woodBFGSCentralCurvatureMet is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)

@@ -202,11 +202,9 @@ func woodCGCentralMinimize(x0 [4]float64, lim WoodCGCentralLimits) woodCGCentral
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// woodCGCentralRiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// woodCGCentralRiseTrend, which never reports that for differences).
 			out.status = WoodCGCentralStepTiny
-			if found.rising && woodCGCentralDerivativeCost == 0 {
+			if found.rising {
 				out.status = WoodCGCentralNoDecrease
 			}
 			return out
@@ -464,7 +462,7 @@ func woodCGCentralLineSearch(x *[4]float64, fx float64, d *[4]float64, slope, fi
 		previous := low
 		if !woodCGCentralFinite(current.value) || current.value > fx+woodCGCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, woodCGCentralFaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+woodCGCentralDerivativeCost > budget {
 				return woodCGCentralLineResult{calls: calls, end: woodCGCentralSearchOutOfBudget}
@@ -541,11 +539,16 @@ type woodCGCentralRiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *woodCGCentralRiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || woodCGCentralAbs(rise) <= 64*woodCGCentralUnitRoundoff*woodCGCentralAbs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *woodCGCentralRiseTrend) add(x, xt, d *[4]float64, t, rise, fx float64) {
+	if woodCGCentralDerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if woodCGCentralAbs(rise) <= 64*woodCGCentralUnitRoundoff*woodCGCentralAbs(fx) || !woodCGCentralFaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -561,6 +564,17 @@ func (r *woodCGCentralRiseTrend) add(t, rise, fx float64, faithful bool) {
 // contradicts reports whether the trials showed a proportional rise.
 func (r *woodCGCentralRiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// woodCGCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func woodCGCentralFaithfulStep(x, xt, d *[4]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(woodCGCentralAbs(xt[i]-x[i]-want) <= 0.01*woodCGCentralAbs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // woodCGCentralTinyOrExhausted ends a search that has run below the step limit: no
@@ -597,17 +611,6 @@ func woodCGCentralMoveTo(out, x *[4]float64, t float64, d *[4]float64) {
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// woodCGCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func woodCGCentralFaithfulStep(x, xt, d *[4]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(woodCGCentralAbs(xt[i]-x[i]-want) <= 0.01*woodCGCentralAbs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // woodCGCentralCurvatureMet is the strong Wolfe curvature condition

@@ -202,11 +202,9 @@ func woodLBFGSAnalyticMinimize(x0 [4]float64, lim WoodLBFGSAnalyticLimits) woodL
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// woodLBFGSAnalyticRiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// woodLBFGSAnalyticRiseTrend, which never reports that for differences).
 			out.status = WoodLBFGSAnalyticStepTiny
-			if found.rising && woodLBFGSAnalyticDerivativeCost == 0 {
+			if found.rising {
 				out.status = WoodLBFGSAnalyticNoDecrease
 			}
 			return out
@@ -482,7 +480,7 @@ func woodLBFGSAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64, slope
 		previous := low
 		if !woodLBFGSAnalyticFinite(current.value) || current.value > fx+woodLBFGSAnalyticStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, woodLBFGSAnalyticFaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+woodLBFGSAnalyticDerivativeCost > budget {
 				return woodLBFGSAnalyticLineResult{calls: calls, end: woodLBFGSAnalyticSearchOutOfBudget}
@@ -559,11 +557,16 @@ type woodLBFGSAnalyticRiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *woodLBFGSAnalyticRiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || woodLBFGSAnalyticAbs(rise) <= 64*woodLBFGSAnalyticUnitRoundoff*woodLBFGSAnalyticAbs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *woodLBFGSAnalyticRiseTrend) add(x, xt, d *[4]float64, t, rise, fx float64) {
+	if woodLBFGSAnalyticDerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if woodLBFGSAnalyticAbs(rise) <= 64*woodLBFGSAnalyticUnitRoundoff*woodLBFGSAnalyticAbs(fx) || !woodLBFGSAnalyticFaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -579,6 +582,17 @@ func (r *woodLBFGSAnalyticRiseTrend) add(t, rise, fx float64, faithful bool) {
 // contradicts reports whether the trials showed a proportional rise.
 func (r *woodLBFGSAnalyticRiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// woodLBFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func woodLBFGSAnalyticFaithfulStep(x, xt, d *[4]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(woodLBFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*woodLBFGSAnalyticAbs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // woodLBFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: no
@@ -615,17 +629,6 @@ func woodLBFGSAnalyticMoveTo(out, x *[4]float64, t float64, d *[4]float64) {
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// woodLBFGSAnalyticFaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func woodLBFGSAnalyticFaithfulStep(x, xt, d *[4]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(woodLBFGSAnalyticAbs(xt[i]-x[i]-want) <= 0.01*woodLBFGSAnalyticAbs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // woodLBFGSAnalyticCurvatureMet is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)

@@ -203,11 +203,9 @@ func woodLBFGSCentralMinimize(x0 [4]float64, lim WoodLBFGSCentralLimits) woodLBF
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// woodLBFGSCentralRiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// woodLBFGSCentralRiseTrend, which never reports that for differences).
 			out.status = WoodLBFGSCentralStepTiny
-			if found.rising && woodLBFGSCentralDerivativeCost == 0 {
+			if found.rising {
 				out.status = WoodLBFGSCentralNoDecrease
 			}
 			return out
@@ -510,7 +508,7 @@ func woodLBFGSCentralLineSearch(x *[4]float64, fx float64, d *[4]float64, slope,
 		previous := low
 		if !woodLBFGSCentralFinite(current.value) || current.value > fx+woodLBFGSCentralStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, woodLBFGSCentralFaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+woodLBFGSCentralDerivativeCost > budget {
 				return woodLBFGSCentralLineResult{calls: calls, end: woodLBFGSCentralSearchOutOfBudget}
@@ -587,11 +585,16 @@ type woodLBFGSCentralRiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *woodLBFGSCentralRiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || woodLBFGSCentralAbs(rise) <= 64*woodLBFGSCentralUnitRoundoff*woodLBFGSCentralAbs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *woodLBFGSCentralRiseTrend) add(x, xt, d *[4]float64, t, rise, fx float64) {
+	if woodLBFGSCentralDerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if woodLBFGSCentralAbs(rise) <= 64*woodLBFGSCentralUnitRoundoff*woodLBFGSCentralAbs(fx) || !woodLBFGSCentralFaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -607,6 +610,17 @@ func (r *woodLBFGSCentralRiseTrend) add(t, rise, fx float64, faithful bool) {
 // contradicts reports whether the trials showed a proportional rise.
 func (r *woodLBFGSCentralRiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// woodLBFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func woodLBFGSCentralFaithfulStep(x, xt, d *[4]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(woodLBFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*woodLBFGSCentralAbs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // woodLBFGSCentralTinyOrExhausted ends a search that has run below the step limit: no
@@ -643,17 +657,6 @@ func woodLBFGSCentralMoveTo(out, x *[4]float64, t float64, d *[4]float64) {
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// woodLBFGSCentralFaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func woodLBFGSCentralFaithfulStep(x, xt, d *[4]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(woodLBFGSCentralAbs(xt[i]-x[i]-want) <= 0.01*woodLBFGSCentralAbs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // woodLBFGSCentralCurvatureMet is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)

@@ -199,11 +199,9 @@ func calibrateMinimize(x0 [2]float64, lim CalibrateLimits) calibrateOutcome {
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// calibrateRiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// calibrateRiseTrend, which never reports that for differences).
 			out.status = CalibrateStepTiny
-			if found.rising && calibrateDerivativeCost == 0 {
+			if found.rising {
 				out.status = CalibrateNoDecrease
 			}
 			return out
@@ -423,7 +421,7 @@ func calibrateLineSearch(x *[2]float64, fx float64, d *[2]float64, slope, first,
 		if calibrateFinite(ft) && calibrateAcceptable(fx, ft, t, slope) {
 			return calibrateLineResult{step: t, value: ft, calls: trial + 1, end: calibrateSearchAccepted}
 		}
-		trend.add(t, ft-fx, fx, calibrateFaithfulStep(x, xt, d, t))
+		trend.add(x, xt, d, t, ft-fx, fx)
 		t, previous, fPrevious = calibrateBacktrackTrial(fx, slope, t, ft, previous, fPrevious), t, ft
 	}
 	return calibrateLineResult{calls: calibrateStepTrials, end: calibrateSearchExhausted}
@@ -466,11 +464,16 @@ type calibrateRiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *calibrateRiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || calibrateAbs(rise) <= 64*calibrateUnitRoundoff*calibrateAbs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *calibrateRiseTrend) add(x, xt, d *[2]float64, t, rise, fx float64) {
+	if calibrateDerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if calibrateAbs(rise) <= 64*calibrateUnitRoundoff*calibrateAbs(fx) || !calibrateFaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -486,6 +489,17 @@ func (r *calibrateRiseTrend) add(t, rise, fx float64, faithful bool) {
 // contradicts reports whether the trials showed a proportional rise.
 func (r *calibrateRiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// calibrateFaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func calibrateFaithfulStep(x, xt, d *[2]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(calibrateAbs(xt[i]-x[i]-want) <= 0.01*calibrateAbs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // calibrateTinyOrExhausted ends a search that has run below the step limit: no
@@ -526,17 +540,6 @@ func calibrateMoveTo(out, x *[2]float64, t float64, d *[2]float64) {
 //     Springer, 2006, §3.1 and §3.5.
 func calibrateAcceptable(fx, ft, t, slope float64) bool {
 	return ft <= fx+calibrateStepDecrease*t*slope // N&W eq. 3.4
-}
-
-// calibrateFaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func calibrateFaithfulStep(x, xt, d *[2]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(calibrateAbs(xt[i]-x[i]-want) <= 0.01*calibrateAbs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // calibrateBacktrackTrial is t·calibrateStepShrink (Nocedal & Wright 2006, Algorithm 3.1).

@@ -200,11 +200,9 @@ func tuneGainMinimize(x0 [1]float64, lim TuneGainLimits) tuneGainOutcome {
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// tuneGainRiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// tuneGainRiseTrend, which never reports that for differences).
 			out.status = TuneGainStepTiny
-			if found.rising && tuneGainDerivativeCost == 0 {
+			if found.rising {
 				out.status = TuneGainNoDecrease
 			}
 			return out
@@ -451,7 +449,7 @@ func tuneGainLineSearch(x *[1]float64, fx float64, d *[1]float64, slope, first, 
 		if tuneGainFinite(ft) && tuneGainAcceptable(fx, ft, t, slope) {
 			return tuneGainLineResult{step: t, value: ft, calls: trial + 1, end: tuneGainSearchAccepted}
 		}
-		trend.add(t, ft-fx, fx, tuneGainFaithfulStep(x, xt, d, t))
+		trend.add(x, xt, d, t, ft-fx, fx)
 		t, previous, fPrevious = tuneGainBacktrackTrial(fx, slope, t, ft, previous, fPrevious), t, ft
 	}
 	return tuneGainLineResult{calls: tuneGainStepTrials, end: tuneGainSearchExhausted}
@@ -494,11 +492,16 @@ type tuneGainRiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *tuneGainRiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || tuneGainAbs(rise) <= 64*tuneGainUnitRoundoff*tuneGainAbs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *tuneGainRiseTrend) add(x, xt, d *[1]float64, t, rise, fx float64) {
+	if tuneGainDerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if tuneGainAbs(rise) <= 64*tuneGainUnitRoundoff*tuneGainAbs(fx) || !tuneGainFaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -514,6 +517,17 @@ func (r *tuneGainRiseTrend) add(t, rise, fx float64, faithful bool) {
 // contradicts reports whether the trials showed a proportional rise.
 func (r *tuneGainRiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// tuneGainFaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func tuneGainFaithfulStep(x, xt, d *[1]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(tuneGainAbs(xt[i]-x[i]-want) <= 0.01*tuneGainAbs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // tuneGainTinyOrExhausted ends a search that has run below the step limit: no
@@ -554,17 +568,6 @@ func tuneGainMoveTo(out, x *[1]float64, t float64, d *[1]float64) {
 //     Springer, 2006, §3.1 and §3.5.
 func tuneGainAcceptable(fx, ft, t, slope float64) bool {
 	return ft <= fx+tuneGainStepDecrease*t*slope // N&W eq. 3.4
-}
-
-// tuneGainFaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func tuneGainFaithfulStep(x, xt, d *[1]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(tuneGainAbs(xt[i]-x[i]-want) <= 0.01*tuneGainAbs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // tuneGainBacktrackTrial is t·tuneGainStepShrink (Nocedal & Wright 2006, Algorithm 3.1).

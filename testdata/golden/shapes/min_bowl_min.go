@@ -202,11 +202,9 @@ func minBowlMinimize(x0 [3]float32, lim MinBowlLimits) minBowlOutcome {
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// minBowlRiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// minBowlRiseTrend, which never reports that for differences).
 			out.status = MinBowlStepTiny
-			if found.rising && minBowlDerivativeCost == 0 {
+			if found.rising {
 				out.status = MinBowlNoDecrease
 			}
 			return out
@@ -460,7 +458,7 @@ func minBowlLineSearch(x *[3]float32, fx float32, d *[3]float32, slope, first, t
 		previous := low
 		if !minBowlFinite(current.value) || current.value > fx+minBowlStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
 			high, bracketed = current, true // too far: [low, current] holds an acceptable step
-			trend.add(t, current.value-fx, fx, minBowlFaithfulStep(x, xt, d, t))
+			trend.add(x, xt, d, t, current.value-fx, fx)
 		} else {
 			if calls+minBowlDerivativeCost > budget {
 				return minBowlLineResult{calls: calls, end: minBowlSearchOutOfBudget}
@@ -537,11 +535,16 @@ type minBowlRiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *minBowlRiseTrend) add(t, rise, fx float32, faithful bool) {
-	if !faithful || minBowlAbs(rise) <= 64*minBowlUnitRoundoff*minBowlAbs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *minBowlRiseTrend) add(x, xt, d *[3]float32, t, rise, fx float32) {
+	if minBowlDerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if minBowlAbs(rise) <= 64*minBowlUnitRoundoff*minBowlAbs(fx) || !minBowlFaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -557,6 +560,17 @@ func (r *minBowlRiseTrend) add(t, rise, fx float32, faithful bool) {
 // contradicts reports whether the trials showed a proportional rise.
 func (r *minBowlRiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// minBowlFaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func minBowlFaithfulStep(x, xt, d *[3]float32, t float32) bool {
+	for i := range x {
+		if want := t * d[i]; !(minBowlAbs(xt[i]-x[i]-want) <= 0.01*minBowlAbs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // minBowlTinyOrExhausted ends a search that has run below the step limit: no
@@ -593,17 +607,6 @@ func minBowlMoveTo(out, x *[3]float32, t float32, d *[3]float32) {
 	for i := range x {
 		out[i] = x[i] + t*d[i]
 	}
-}
-
-// minBowlFaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func minBowlFaithfulStep(x, xt, d *[3]float32, t float32) bool {
-	for i := range x {
-		if want := t * d[i]; !(minBowlAbs(xt[i]-x[i]-want) <= 0.01*minBowlAbs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // minBowlCurvatureMet is the strong Wolfe curvature condition

@@ -200,11 +200,9 @@ func minParabolaMinimize(x0 [1]float64, lim MinParabolaLimits) minParabolaOutcom
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// minParabolaRiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// minParabolaRiseTrend, which never reports that for differences).
 			out.status = MinParabolaStepTiny
-			if found.rising && minParabolaDerivativeCost == 0 {
+			if found.rising {
 				out.status = MinParabolaNoDecrease
 			}
 			return out
@@ -451,7 +449,7 @@ func minParabolaLineSearch(x *[1]float64, fx float64, d *[1]float64, slope, firs
 		if minParabolaFinite(ft) && minParabolaAcceptable(fx, ft, t, slope) {
 			return minParabolaLineResult{step: t, value: ft, calls: trial + 1, end: minParabolaSearchAccepted}
 		}
-		trend.add(t, ft-fx, fx, minParabolaFaithfulStep(x, xt, d, t))
+		trend.add(x, xt, d, t, ft-fx, fx)
 		t, previous, fPrevious = minParabolaBacktrackTrial(fx, slope, t, ft, previous, fPrevious), t, ft
 	}
 	return minParabolaLineResult{calls: minParabolaStepTrials, end: minParabolaSearchExhausted}
@@ -494,11 +492,16 @@ type minParabolaRiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *minParabolaRiseTrend) add(t, rise, fx float64, faithful bool) {
-	if !faithful || minParabolaAbs(rise) <= 64*minParabolaUnitRoundoff*minParabolaAbs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *minParabolaRiseTrend) add(x, xt, d *[1]float64, t, rise, fx float64) {
+	if minParabolaDerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if minParabolaAbs(rise) <= 64*minParabolaUnitRoundoff*minParabolaAbs(fx) || !minParabolaFaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -514,6 +517,17 @@ func (r *minParabolaRiseTrend) add(t, rise, fx float64, faithful bool) {
 // contradicts reports whether the trials showed a proportional rise.
 func (r *minParabolaRiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// minParabolaFaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func minParabolaFaithfulStep(x, xt, d *[1]float64, t float64) bool {
+	for i := range x {
+		if want := t * d[i]; !(minParabolaAbs(xt[i]-x[i]-want) <= 0.01*minParabolaAbs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // minParabolaTinyOrExhausted ends a search that has run below the step limit: no
@@ -554,17 +568,6 @@ func minParabolaMoveTo(out, x *[1]float64, t float64, d *[1]float64) {
 //     Springer, 2006, §3.1 and §3.5.
 func minParabolaAcceptable(fx, ft, t, slope float64) bool {
 	return ft <= fx+minParabolaStepDecrease*t*slope // N&W eq. 3.4
-}
-
-// minParabolaFaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func minParabolaFaithfulStep(x, xt, d *[1]float64, t float64) bool {
-	for i := range x {
-		if want := t * d[i]; !(minParabolaAbs(xt[i]-x[i]-want) <= 0.01*minParabolaAbs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // minParabolaBacktrackTrial is t·minParabolaStepShrink (Nocedal & Wright 2006, Algorithm 3.1).

@@ -201,11 +201,9 @@ func minPlateDecreaseMinimize(x0 [2]float32, lim MinPlateDecreaseLimits) minPlat
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// minPlateDecreaseRiseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// minPlateDecreaseRiseTrend, which never reports that for differences).
 			out.status = MinPlateDecreaseStepTiny
-			if found.rising && minPlateDecreaseDerivativeCost == 0 {
+			if found.rising {
 				out.status = MinPlateDecreaseNoDecrease
 			}
 			return out
@@ -407,7 +405,7 @@ func minPlateDecreaseLineSearch(x *[2]float32, fx float32, d *[2]float32, slope,
 		if minPlateDecreaseFinite(ft) && minPlateDecreaseAcceptable(fx, ft, t, slope) {
 			return minPlateDecreaseLineResult{step: t, value: ft, calls: trial + 1, end: minPlateDecreaseSearchAccepted}
 		}
-		trend.add(t, ft-fx, fx, minPlateDecreaseFaithfulStep(x, xt, d, t))
+		trend.add(x, xt, d, t, ft-fx, fx)
 		t, previous, fPrevious = minPlateDecreaseBacktrackTrial(fx, slope, t, ft, previous, fPrevious), t, ft
 	}
 	return minPlateDecreaseLineResult{calls: minPlateDecreaseStepTrials, end: minPlateDecreaseSearchExhausted}
@@ -450,11 +448,16 @@ type minPlateDecreaseRiseTrend struct {
 	latched    bool    // five in a row were seen
 }
 
-// add records a failed trial t that changed f(x) = fx by rise (NaN or
-// ±Inf when the value was not finite); faithful says whether the step
-// actually taken was t·d.
-func (r *minPlateDecreaseRiseTrend) add(t, rise, fx float32, faithful bool) {
-	if !faithful || minPlateDecreaseAbs(rise) <= 64*minPlateDecreaseUnitRoundoff*minPlateDecreaseAbs(fx) {
+// add records a failed trial t, at xt, that changed f(x) = fx by rise
+// (NaN or ±Inf when the value was not finite).
+func (r *minPlateDecreaseRiseTrend) add(x, xt, d *[2]float32, t, rise, fx float32) {
+	if minPlateDecreaseDerivativeCost > 0 {
+		// With differences a proportional rise means their error, not a
+		// wrong gradient: x is stationary to their accuracy, so nothing is
+		// recorded (a constant condition, compiled away).
+		return
+	}
+	if minPlateDecreaseAbs(rise) <= 64*minPlateDecreaseUnitRoundoff*minPlateDecreaseAbs(fx) || !minPlateDecreaseFaithfulStep(x, xt, d, t) {
 		return
 	}
 	ratio := (r.rise / rise) / (r.step / t) // 1 when rise ∝ t
@@ -470,6 +473,17 @@ func (r *minPlateDecreaseRiseTrend) add(t, rise, fx float32, faithful bool) {
 // contradicts reports whether the trials showed a proportional rise.
 func (r *minPlateDecreaseRiseTrend) contradicts() bool {
 	return r.latched || r.linear >= 3
+}
+
+// minPlateDecreaseFaithfulStep reports whether xt − x is t·d to within 1% in every
+// component, that is, whether rounding let x move as the search meant.
+func minPlateDecreaseFaithfulStep(x, xt, d *[2]float32, t float32) bool {
+	for i := range x {
+		if want := t * d[i]; !(minPlateDecreaseAbs(xt[i]-x[i]-want) <= 0.01*minPlateDecreaseAbs(want)) {
+			return false
+		}
+	}
+	return true
 }
 
 // minPlateDecreaseTinyOrExhausted ends a search that has run below the step limit: no
@@ -502,17 +516,6 @@ func minPlateDecreaseMoveTo(out, x *[2]float32, t float32, d *[2]float32) {
 // around Fig. 3.2), which is why the Armijo rule exists.
 func minPlateDecreaseAcceptable(fx, ft, t, slope float32) bool {
 	return ft < fx
-}
-
-// minPlateDecreaseFaithfulStep reports whether xt − x is t·d to within 1% in every
-// component, that is, whether rounding let x move as the search meant.
-func minPlateDecreaseFaithfulStep(x, xt, d *[2]float32, t float32) bool {
-	for i := range x {
-		if want := t * d[i]; !(minPlateDecreaseAbs(xt[i]-x[i]-want) <= 0.01*minPlateDecreaseAbs(want)) {
-			return false
-		}
-	}
-	return true
 }
 
 // minPlateDecreaseBacktrackTrial minimizes a model of φ(t) = f(x + t·d) built from what

@@ -195,11 +195,9 @@ func minPlateMinimize(x0 [2]float32, lim MinPlateLimits) minPlateOutcome {
 			// Converged to the step limit: no step the step test would
 			// reject decreases f. Not so when an analytic gradient is
 			// contradicted by f rising in proportion to the step (see
-			// riseTrend); with differences such a rise means their error,
-			// not the true slope, steers d, and x is stationary to the
-			// accuracy of the differences.
+			// riseTrend, which never reports that for differences).
 			out.status = MinPlateStepTiny
-			if found.rising && minPlateDerivativeCost == 0 {
+			if found.rising {
 				out.status = MinPlateNoDecrease
 			}
 			return out
