@@ -50,12 +50,22 @@ var tunables = []tunable{
 	{"lbfgsMemory", "memory", func(p *Plan) string { return strconv.Itoa(p.M.Memory) }},
 	{"derivativeCost", "objective calls per gradient", func(p *Plan) string { return strconv.Itoa(p.Cost) }},
 	{"unitRoundoff", "unit roundoff u of the float type", func(p *Plan) string { return formatFloat(roundoff(p.Shape.Elem)) }},
+	{"largestFinite", "the largest finite value of the float type", func(p *Plan) string { return largestFinite(p.Shape.Elem) }},
 	{"forwardScale", "√u, forward-difference step scale (Nocedal & Wright 2006, §8.1)", func(p *Plan) string {
 		return formatFloat(math.Sqrt(roundoff(p.Shape.Elem)))
 	}},
 	{"centralScale", "∛u, central-difference step scale (Nocedal & Wright 2006, §8.1)", func(p *Plan) string {
 		return formatFloat(math.Cbrt(roundoff(p.Shape.Elem)))
 	}},
+}
+
+// largestFinite renders the largest finite value of a float type as a Go
+// literal (IEEE 754 binary32 and binary64).
+func largestFinite(elem string) string {
+	if elem == "float32" {
+		return "0x1.fffffep127"
+	}
+	return "0x1.fffffffffffffp1023"
 }
 
 // roundoff is the unit roundoff u = 2^−p of a float type with p-bit

@@ -15,6 +15,8 @@ const (
 	centralScale = 4.806217383937352e-06
 	unitRoundoff = 0x1p-53 // u of float64
 
+	largestFinite = 0x1.fffffffffffffp1023 // the largest finite float64
+
 	lbfgsMemory = 5 // L-BFGS correction pairs
 )
 

@@ -2,10 +2,16 @@ package templates
 
 import "math"
 
-// finite reports whether v is neither NaN nor ±Inf: v-v is 0 for every
-// finite v and NaN otherwise, which needs no package math.
+// finite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
 func finite(v elem) bool {
-	return v-v == 0
+	return v >= -largestFinite && v <= largestFinite
 }
 
 // finiteVec reports whether every component of x is finite.

@@ -116,6 +116,7 @@ const (
 	concaveRightWolfeMTAlphaEm3StepTrials     = 40                     // step.trials
 	concaveRightWolfeMTAlphaEm3DerivativeCost = 0                      // objective calls per gradient
 	concaveRightWolfeMTAlphaEm3UnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
+	concaveRightWolfeMTAlphaEm3LargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // concaveRightWolfeMTAlphaEm3Minimize runs the descent loop from x0 within lim:
@@ -247,10 +248,16 @@ type concaveRightWolfeMTAlphaEm3Outcome struct {
 	status      ConcaveRightWolfeMTAlphaEm3Status
 }
 
-// concaveRightWolfeMTAlphaEm3Finite reports whether v is neither NaN nor ±Inf: v-v is 0 for every
-// finite v and NaN otherwise, which needs no package math.
+// concaveRightWolfeMTAlphaEm3Finite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
 func concaveRightWolfeMTAlphaEm3Finite(v float64) bool {
-	return v-v == 0
+	return v >= -concaveRightWolfeMTAlphaEm3LargestFinite && v <= concaveRightWolfeMTAlphaEm3LargestFinite
 }
 
 // concaveRightWolfeMTAlphaEm3FiniteVec reports whether every component of x is finite.

@@ -117,6 +117,7 @@ const (
 	box3DLBFGSAnalyticLbfgsMemory    = 5                      // memory
 	box3DLBFGSAnalyticDerivativeCost = 0                      // objective calls per gradient
 	box3DLBFGSAnalyticUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
+	box3DLBFGSAnalyticLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // box3DLBFGSAnalyticMinimize runs the descent loop from x0 within lim:
@@ -248,10 +249,16 @@ type box3DLBFGSAnalyticOutcome struct {
 	status      Box3DLBFGSAnalyticStatus
 }
 
-// box3DLBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf: v-v is 0 for every
-// finite v and NaN otherwise, which needs no package math.
+// box3DLBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
 func box3DLBFGSAnalyticFinite(v float64) bool {
-	return v-v == 0
+	return v >= -box3DLBFGSAnalyticLargestFinite && v <= box3DLBFGSAnalyticLargestFinite
 }
 
 // box3DLBFGSAnalyticFiniteVec reports whether every component of x is finite.

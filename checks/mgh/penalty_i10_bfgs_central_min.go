@@ -116,6 +116,7 @@ const (
 	penaltyI10BFGSCentralStepTrials     = 40                     // step.trials
 	penaltyI10BFGSCentralDerivativeCost = 20                     // objective calls per gradient
 	penaltyI10BFGSCentralUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
+	penaltyI10BFGSCentralLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 	penaltyI10BFGSCentralCentralScale   = 4.806217383937352e-06  // ∛u, central-difference step scale (Nocedal & Wright 2006, §8.1)
 )
 
@@ -248,10 +249,16 @@ type penaltyI10BFGSCentralOutcome struct {
 	status      PenaltyI10BFGSCentralStatus
 }
 
-// penaltyI10BFGSCentralFinite reports whether v is neither NaN nor ±Inf: v-v is 0 for every
-// finite v and NaN otherwise, which needs no package math.
+// penaltyI10BFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
 func penaltyI10BFGSCentralFinite(v float64) bool {
-	return v-v == 0
+	return v >= -penaltyI10BFGSCentralLargestFinite && v <= penaltyI10BFGSCentralLargestFinite
 }
 
 // penaltyI10BFGSCentralFiniteVec reports whether every component of x is finite.

@@ -117,6 +117,7 @@ const (
 	penaltyII10LBFGSCentralLbfgsMemory    = 5                      // memory
 	penaltyII10LBFGSCentralDerivativeCost = 20                     // objective calls per gradient
 	penaltyII10LBFGSCentralUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
+	penaltyII10LBFGSCentralLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 	penaltyII10LBFGSCentralCentralScale   = 4.806217383937352e-06  // ∛u, central-difference step scale (Nocedal & Wright 2006, §8.1)
 )
 
@@ -249,10 +250,16 @@ type penaltyII10LBFGSCentralOutcome struct {
 	status      PenaltyII10LBFGSCentralStatus
 }
 
-// penaltyII10LBFGSCentralFinite reports whether v is neither NaN nor ±Inf: v-v is 0 for every
-// finite v and NaN otherwise, which needs no package math.
+// penaltyII10LBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
 func penaltyII10LBFGSCentralFinite(v float64) bool {
-	return v-v == 0
+	return v >= -penaltyII10LBFGSCentralLargestFinite && v <= penaltyII10LBFGSCentralLargestFinite
 }
 
 // penaltyII10LBFGSCentralFiniteVec reports whether every component of x is finite.

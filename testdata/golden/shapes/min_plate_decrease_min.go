@@ -115,6 +115,7 @@ const (
 	minPlateDecreaseStepTrials     = 40                    // step.trials
 	minPlateDecreaseDerivativeCost = 4                     // objective calls per gradient
 	minPlateDecreaseUnitRoundoff   = 5.960464477539063e-08 // unit roundoff u of the float type
+	minPlateDecreaseLargestFinite  = 0x1.fffffep127        // the largest finite value of the float type
 	minPlateDecreaseCentralScale   = 0.00390625            // ∛u, central-difference step scale (Nocedal & Wright 2006, §8.1)
 )
 
@@ -247,10 +248,16 @@ type minPlateDecreaseOutcome struct {
 	status      MinPlateDecreaseStatus
 }
 
-// minPlateDecreaseFinite reports whether v is neither NaN nor ±Inf: v-v is 0 for every
-// finite v and NaN otherwise, which needs no package math.
+// minPlateDecreaseFinite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
 func minPlateDecreaseFinite(v float32) bool {
-	return v-v == 0
+	return v >= -minPlateDecreaseLargestFinite && v <= minPlateDecreaseLargestFinite
 }
 
 // minPlateDecreaseFiniteVec reports whether every component of x is finite.

@@ -108,8 +108,9 @@ func MinPlateWithLimits(x0 [2]float32, limits MinPlateLimits) MinPlateResult {
 
 // Tunables of MinPlate from shapes.toml; the kernels below read them.
 const (
-	minPlateStepInitial    = 0.2 // step.initial
-	minPlateDerivativeCost = 0   // objective calls per gradient
+	minPlateStepInitial    = 0.2            // step.initial
+	minPlateDerivativeCost = 0              // objective calls per gradient
+	minPlateLargestFinite  = 0x1.fffffep127 // the largest finite value of the float type
 )
 
 // minPlateMinimize runs the descent loop from x0 within lim:
@@ -241,10 +242,16 @@ type minPlateOutcome struct {
 	status      MinPlateStatus
 }
 
-// minPlateFinite reports whether v is neither NaN nor ±Inf: v-v is 0 for every
-// finite v and NaN otherwise, which needs no package math.
+// minPlateFinite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
 func minPlateFinite(v float32) bool {
-	return v-v == 0
+	return v >= -minPlateLargestFinite && v <= minPlateLargestFinite
 }
 
 // minPlateFiniteVec reports whether every component of x is finite.
