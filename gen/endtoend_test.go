@@ -12,6 +12,8 @@ import (
 	"sort"
 	"strings"
 	"testing"
+
+	"github.com/nadir-opt/nadir/internal/targets"
 )
 
 // TestEndToEnd builds a throwaway module in a temporary directory whose
@@ -23,8 +25,10 @@ import (
 // (header, no absolute paths, imports, gofmt), determinism and Stale, runs
 // go vet and go test (the generated tests assert convergence to the
 // closed-form minimum of each objective), proves with -gcflags=-m that the
-// generated code moves nothing to the heap, and cross-compiles for 32-bit
-// arm, riscv64 and js/wasm.
+// generated code moves nothing to the heap, vets for 32-bit arm, and runs
+// the generated tests again on every target of internal/targets: under
+// emulation for arm64, riscv64, ppc64le, s390x, arm (GOARM=7 and 5) and
+// js/wasm, and on amd64 v3, where multiply-adds are fused.
 //
 // It runs the go command many times, so `go test -short` skips it; CI runs
 // it without -short.
@@ -98,15 +102,25 @@ func TestEndToEnd(t *testing.T) {
 		}
 	})
 	t.Run("escape", func(t *testing.T) { e2eCheckEscape(t, root) })
-	t.Run("cross", func(t *testing.T) {
-		for _, target := range [][]string{
-			{"GOOS=linux", "GOARCH=arm", "GOARM=7"},
-			{"GOOS=linux", "GOARCH=riscv64"},
-			{"GOOS=js", "GOARCH=wasm"},
-		} {
-			e2eGo(t, root, target, "build", "./...")
+	t.Run("targets", func(t *testing.T) {
+		// The generated tests again, cross-compiled and run on every
+		// emulated target, and on amd64 with fused multiply-adds.
+		for _, target := range append([]targets.Target{targets.Fused}, targets.All...) {
+			t.Run(target.Name, func(t *testing.T) {
+				out, err := target.Test(root, "-count=1", "./...")
+				if err != nil {
+					t.Fatalf("%v\n%s", err, out)
+				}
+				for _, pkg := range []string{"e2e/plain", "e2e/grad", "e2e/methods/recv"} {
+					if !regexp.MustCompile(`(?m)^ok\s+` + regexp.QuoteMeta(pkg) + `\s`).MatchString(out) {
+						t.Errorf("go test did not report ok for %s:\n%s", pkg, out)
+					}
+				}
+			})
 		}
-		// Type-check the generated tests too on a 32-bit target, where int
+	})
+	t.Run("vet-32-bit", func(t *testing.T) {
+		// Type-check the generated tests on a 32-bit target too, where int
 		// is 32 bits wide.
 		e2eGo(t, root, []string{"GOOS=linux", "GOARCH=arm", "GOARM=7"}, "vet", "./...")
 	})
@@ -507,6 +521,17 @@ func Quad4f(x []float32) float32 {
 	return s
 }
 
+// Tilted is 0.3·((x₀ − 1)² + 4(x₁ + 0.5)² + 5), minimum 1.5 at (1, −0.5)
+// (a shifted quadratic, as above). It ends in a product: inlined into the
+// kernels, compilers that fuse multiply-adds (arm64, ppc64le, s390x,
+// riscv64, amd64 v3) may fold that product into the kernels' arithmetic,
+// which once made a finiteness test built on v − v == 0 fail at the start.
+func Tilted(x [2]float64) float64 {
+	a, b := x[0]-1, x[1]+0.5
+	s := a*a + 4*b*b + 5
+	return 0.3 * s
+}
+
 // Unit2 is Σ (xᵢ − aᵢ)², a = unit2A; minimum at a. Its gradient 2(x − a)
 // has Lipschitz constant 2, so steepest descent with the fixed step 0.25
 // (< 2/L = 1) converges: each step halves x − a (Nocedal & Wright 2006, §3.3).
@@ -521,6 +546,23 @@ func Unit2(x [2]float64) float64 {
 `
 
 const e2ePlainSpec = `# Plain functions: every objective form, float64 and float32.
+
+# Every key at its default, on objectives ending in a multiplication, the
+# case fused multiply-adds once broke (see Tilted and Bowl32).
+[[minimizer]]
+name = "TiltedDefaults"
+objective = "Tilted"
+start = [3.0, 1.0]
+[minimizer.expect]
+x = [1.0, -0.5]               # shifted quadratic: minimum at (1, −0.5)
+
+[[minimizer]]
+name = "BowlF32Defaults"
+objective = "Bowl32"
+start = 0.0
+[minimizer.expect]
+x = 1.5                       # 3(x − 1.5)², f′(1.5) = 0
+tolerance = 1e-3              # the float32 central-difference gradient limit 1e-3 allows |x − 1.5| ≤ 1.7e-4
 
 [[minimizer]]
 name = "BowlF64"

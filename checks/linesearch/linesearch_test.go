@@ -5,12 +5,11 @@ import (
 	"flag"
 	"fmt"
 	"math"
-	"os"
-	"runtime"
-	"strings"
 	"testing"
 
 	"gonum.org/v1/gonum/optimize/functions"
+
+	"github.com/nadir-opt/nadir/checks/internal/results"
 )
 
 var update = flag.Bool("update", false, "rewrite testdata/results.md from this run")
@@ -107,7 +106,7 @@ func TestOneLineSearch(t *testing.T) {
 		fmt.Fprintf(&table, "| %s (%d) | %g | %s | %g | %g | %s | %d | %.6g | %.6g | %.3g | %s |\n",
 			c.Function.Name, c.Table, c.Alpha0, c.Rule, c.C1, c.C2, o.Status, o.Evaluations, a, fa, ga, map[bool]string{true: "yes", false: "no"}[paper])
 	}
-	compareResults(t, table.Bytes())
+	results.Compare(t, resultsFile, table.Bytes(), *update, "go test ./linesearch -update")
 }
 
 const resultsHeader = `# Moré–Thuente line-search functions: one line search of nadir's generated minimizers
@@ -126,41 +125,3 @@ it is recorded, not asserted.
 | function (table) | α₀ | rule | c1 | c2 | status | evaluations | α | φ(α) | φ'(α) | MT (μ, η) met |
 | --- | --- | --- | --- | --- | --- | --- | --- | --- | --- | --- |
 `
-
-// compareResults writes the table with -update; otherwise it compares it
-// with the committed one byte for byte on amd64, where it was recorded.
-func compareResults(t *testing.T, got []byte) {
-	t.Helper()
-	if *update {
-		if err := os.WriteFile(resultsFile, got, 0o644); err != nil {
-			t.Fatal(err)
-		}
-		return
-	}
-	want, err := os.ReadFile(resultsFile)
-	if err != nil {
-		t.Fatalf("%v (run `go test ./linesearch -update` to write it)", err)
-	}
-	if bytes.Equal(got, want) {
-		return
-	}
-	if runtime.GOARCH != "amd64" {
-		t.Logf("%s differs on %s; it is compared on amd64 only", resultsFile, runtime.GOARCH)
-		return
-	}
-	w, g := strings.Split(string(want), "\n"), strings.Split(string(got), "\n")
-	var b strings.Builder
-	for i := 0; i < len(w) || i < len(g); i++ {
-		var x, y string
-		if i < len(w) {
-			x = w[i]
-		}
-		if i < len(g) {
-			y = g[i]
-		}
-		if x != y {
-			fmt.Fprintf(&b, "line %d:\n- %s\n+ %s\n", i+1, x, y)
-		}
-	}
-	t.Errorf("%s is stale (run `go test ./linesearch -update` after review):\n%s", resultsFile, b.String())
-}

@@ -5,13 +5,13 @@ import (
 	"flag"
 	"fmt"
 	"math"
-	"os"
-	"runtime"
 	"sort"
 	"strings"
 	"testing"
 
 	"gonum.org/v1/gonum/optimize/functions"
+
+	"github.com/nadir-opt/nadir/checks/internal/results"
 )
 
 var update = flag.Bool("update", false, "rewrite testdata/results.md from this run")
@@ -233,13 +233,24 @@ func reaches(e expectation, o outcome) (functions.Minimum, bool) {
 	return functions.Minimum{}, false
 }
 
+// fUlps bounds how far F may be from gonum's Func at X, in units in the
+// last place. The objective is gonum's Func in both, but inlined into the
+// generated minimizer it may be compiled with other fused multiply-adds
+// (arm64, ppc64le, s390x, riscv64, amd64 v3) than at the call here; the
+// largest difference seen over every run on every CI target was 1 ulp
+// (Penalty I), and none on linux/amd64 v1.
+const fUlps = 4
+
 // TestPublishedMinima runs every generated minimizer from MGH's start and
-// asks for convergence to a recorded minimum; it writes (with -update) or
-// compares the results table.
+// asks for convergence to a recorded minimum, one subtest per problem; it
+// writes (with -update) or compares the results table when every problem
+// ran (a -run pattern that selects some, as the emulated CI targets use,
+// checks those without the table).
 func TestPublishedMinima(t *testing.T) {
 	var table bytes.Buffer
 	table.WriteString(resultsHeader)
 	seen := map[string]bool{}
+	ran := 0
 	for _, p := range Problems {
 		e, ok := expectations[p.Name]
 		if !ok || len(e.minima) == 0 {
@@ -247,41 +258,58 @@ func TestPublishedMinima(t *testing.T) {
 		}
 		for _, dir := range Directions {
 			for _, der := range Derivatives {
-				name := MinimizerName(p, dir, der)
-				seen[name] = true
-				o := runs[name](p.Start)
-				// The reported f must be the objective at the reported x.
-				if f := evaluate(p, o.X); f != o.F {
-					t.Errorf("%s: F = %v but the objective at X is %v", name, o.F, f)
-				}
-				_, atMinimum := reaches(e, o)
-				pass := o.Converged && atMinimum
-				check := "ok"
-				ex, excluded := exclusions[name]
-				switch {
-				case excluded && pass:
-					t.Errorf("%s is excluded (%s) but now passes: remove it from exclusions", name, ex.why)
-				case excluded:
-					check = "excluded"
-				case !o.Converged:
-					t.Errorf("%s: status %s after %d iterations, %d evaluations; f = %g, x = %v", name, o.Status, o.Iterations, o.Evaluations, o.F, o.X)
-					check = "FAIL"
-				case !atMinimum:
-					t.Errorf("%s: %s at f = %.17g, x = %v: no recorded minimum within x tol %g, f tol %g", name, o.Status, o.F, o.X, e.xTol, fTol)
-					check = "FAIL"
-				}
-				fmt.Fprintf(&table, "| %s (%d) | %d | %s | %s | %s | %d | %d | %.6g | %s |\n",
-					p.Name, p.MGH, p.N, dir, der, o.Status, o.Iterations, o.Evaluations, o.F, check)
+				seen[MinimizerName(p, dir, der)] = true
 			}
 		}
+		t.Run(p.Name, func(t *testing.T) {
+			ran++
+			for _, dir := range Directions {
+				for _, der := range Derivatives {
+					table.WriteString(checkRun(t, p, e, dir, der))
+				}
+			}
+		})
 	}
 	for name := range exclusions {
 		if !seen[name] {
 			t.Errorf("exclusion %s names no generated minimizer", name)
 		}
 	}
+	if ran < len(Problems) {
+		t.Logf("%d of %d problems selected: %s not compared", ran, len(Problems), resultsFile)
+		return
+	}
 	table.WriteString(exclusionsSection())
-	compareResults(t, table.Bytes())
+	results.Compare(t, resultsFile, table.Bytes(), *update, "go test ./mgh -update")
+}
+
+// checkRun runs one generated minimizer, checks it and returns its row of
+// the results table.
+func checkRun(t *testing.T, p Problem, e expectation, dir, der string) string {
+	name := MinimizerName(p, dir, der)
+	o := runs[name](p.Start)
+	// The reported f must be the objective at the reported x.
+	if f := evaluate(p, o.X); results.UlpsApart(f, o.F) > fUlps {
+		t.Errorf("%s: F = %v but the objective at X is %v, %d ulps apart", name, o.F, f, results.UlpsApart(f, o.F))
+	}
+	_, atMinimum := reaches(e, o)
+	pass := o.Converged && atMinimum
+	check := "ok"
+	ex, excluded := exclusions[name]
+	switch {
+	case excluded && pass:
+		t.Errorf("%s is excluded (%s) but now passes: remove it from exclusions", name, ex.why)
+	case excluded:
+		check = "excluded"
+	case !o.Converged:
+		t.Errorf("%s: status %s after %d iterations, %d evaluations; f = %g, x = %v", name, o.Status, o.Iterations, o.Evaluations, o.F, o.X)
+		check = "FAIL"
+	case !atMinimum:
+		t.Errorf("%s: %s at f = %.17g, x = %v: no recorded minimum within x tol %g, f tol %g", name, o.Status, o.F, o.X, e.xTol, fTol)
+		check = "FAIL"
+	}
+	return fmt.Sprintf("| %s (%d) | %d | %s | %s | %s | %d | %d | %.6g | %s |\n",
+		p.Name, p.MGH, p.N, dir, der, o.Status, o.Iterations, o.Evaluations, o.F, check)
 }
 
 // evaluate calls gonum's Func at x, the reference for F.
@@ -325,51 +353,6 @@ func exclusionsSection() string {
 	b.WriteString("\n## Exclusions\n\nRun and recorded above, not asserted.\n\n| minimizer | why | source of the difficulty |\n| --- | --- | --- |\n")
 	for _, name := range names {
 		fmt.Fprintf(&b, "| %s | %s | %s |\n", name, exclusions[name].why, exclusions[name].source)
-	}
-	return b.String()
-}
-
-// compareResults writes the table with -update; otherwise it compares it
-// with the committed one byte for byte on amd64, where it was recorded
-// (other GOARCHes may fuse multiply-adds and take other paths).
-func compareResults(t *testing.T, got []byte) {
-	t.Helper()
-	if *update {
-		if err := os.WriteFile(resultsFile, got, 0o644); err != nil {
-			t.Fatal(err)
-		}
-		return
-	}
-	want, err := os.ReadFile(resultsFile)
-	if err != nil {
-		t.Fatalf("%v (run `go test ./mgh -update` to write it)", err)
-	}
-	if bytes.Equal(got, want) {
-		return
-	}
-	if runtime.GOARCH != "amd64" {
-		t.Logf("%s differs on %s; it is compared on amd64 only", resultsFile, runtime.GOARCH)
-		return
-	}
-	t.Errorf("%s is stale (run `go test ./mgh -update` after review):\n%s", resultsFile, lineDiff(want, got))
-}
-
-// lineDiff lists the lines that differ, with their line numbers.
-func lineDiff(want, got []byte) string {
-	w := strings.Split(string(want), "\n")
-	g := strings.Split(string(got), "\n")
-	var b strings.Builder
-	for i := 0; i < len(w) || i < len(g); i++ {
-		var a, c string
-		if i < len(w) {
-			a = w[i]
-		}
-		if i < len(g) {
-			c = g[i]
-		}
-		if a != c {
-			fmt.Fprintf(&b, "line %d:\n- %s\n+ %s\n", i+1, a, c)
-		}
 	}
 	return b.String()
 }

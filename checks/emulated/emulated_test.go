@@ -1,0 +1,71 @@
+// Package emulated runs the outside checks again on every CI target, each
+// under emulation (see github.com/nadir-opt/nadir/internal/targets): all
+// of ../linesearch, and of ../mgh the problems in Representative, both the
+// published-minima assertions and the generated minimizers' own tests.
+// The results tables are compared byte for byte only on the platform they
+// were recorded on (../internal/results); every assertion holds on all.
+package emulated
+
+import (
+	"path/filepath"
+	"regexp"
+	"strings"
+	"testing"
+
+	"github.com/nadir-opt/nadir/internal/targets"
+)
+
+// Representative are the MGH problems run on every target: 16 of the 20
+// instances, dimensions 2 to 10, zero and nonzero minima, the two badly
+// scaled ones, a singular Hessian, exp and trigonometric terms (math.Exp
+// and math.Sin are assembly on some targets and pure Go on others). Left
+// out for time, since under soft-float GOARM=5 emulation each takes
+// minutes: Gulf R&D (99 residuals of math.Pow, most of even the native run
+// time), Biggs EXP6 (its generated tests alone took 8 minutes there),
+// Watson 9 and Penalty II 10 (thousands of iterations).
+var Representative = []string{
+	"Rosenbrock", "PowellBadlyScaled", "BrownBadlyScaled", "Beale", "HelicalValley", "Gaussian", "Box3D",
+	"PowellSingular", "Wood", "BrownDennis", "Watson6", "PenaltyI4", "PenaltyI10", "PenaltyII4",
+	"VariablyDimensioned10", "Trigonometric10",
+}
+
+func TestChecksOnEveryTarget(t *testing.T) {
+	if testing.Short() {
+		t.Skip("cross-compiles and emulates seven targets; skipped with -short")
+	}
+	dir, err := filepath.Abs("..")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := targets.Track(filepath.Join(dir, "mgh"), filepath.Join(dir, "linesearch"), filepath.Join(dir, "internal")); err != nil {
+		t.Fatal(err)
+	}
+	problems := strings.Join(Representative, "|")
+	// Top level: the published-minima test and the generated tests of the
+	// chosen problems; second level: the chosen problems' subtests.
+	run := `^(TestPublishedMinima|Test(` + problems + `)(BFGS|LBFGS|CG)\w*)$/^(` + problems + `)$`
+	for _, target := range targets.All {
+		t.Run(target.Name, func(t *testing.T) {
+			out, err := target.Test(dir, "-count=1", "./linesearch")
+			if err != nil {
+				t.Fatalf("%v\n%s", err, out)
+			}
+			out2, err := target.Test(dir, "-count=1", "-v", "-run", run, "./mgh")
+			if err != nil {
+				t.Fatalf("%v\n%s", err, out2)
+			}
+			for _, p := range Representative {
+				if !strings.Contains(out2, "--- PASS: TestPublishedMinima/"+p+" ") {
+					t.Errorf("TestPublishedMinima/%s did not pass:\n%s", p, out2)
+				}
+			}
+			generated := len(regexp.MustCompile(`(?m)^--- PASS: Test\w+(BFGS|LBFGS|CG)\w+`).FindAllString(out2, -1))
+			// Per problem, 3 directions × (analytic: converges, allocations,
+			// cap, gradient; central: the first three).
+			if want := 3 * (4 + 3) * len(Representative); generated != want {
+				t.Errorf("%d generated mgh tests passed, want %d:\n%s", generated, want, out2)
+			}
+			t.Logf("%s%d generated mgh tests and %d published minima passed", out, generated, len(Representative))
+		})
+	}
+}
