@@ -1,4 +1,4 @@
-module github.com/nadir-opt/nadir
+module github.com/thalweg-go/thalweg
 
 go 1.26.0
 
@@ -14,4 +14,4 @@ require (
 	golang.org/x/sync v0.24.0 // indirect
 )
 
-tool github.com/nadir-opt/nadir/cmd/nadir
+tool github.com/thalweg-go/thalweg/cmd/thalweg

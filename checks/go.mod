@@ -1,9 +1,9 @@
-module github.com/nadir-opt/nadir/checks
+module github.com/thalweg-go/thalweg/checks
 
 go 1.26.0
 
 require (
-	github.com/nadir-opt/nadir v0.0.0-00010101000000-000000000000
+	github.com/thalweg-go/thalweg v0.0.0-00010101000000-000000000000
 	gonum.org/v1/gonum v0.17.0
 )
 
@@ -15,4 +15,4 @@ require (
 	golang.org/x/tools v0.52.0 // indirect
 )
 
-replace github.com/nadir-opt/nadir => ../
+replace github.com/thalweg-go/thalweg => ../

@@ -12,7 +12,7 @@ import (
 	"github.com/dave/jennifer/jen"
 	"golang.org/x/tools/go/ast/astutil"
 
-	"github.com/nadir-opt/nadir/rules"
+	"github.com/thalweg-go/thalweg/rules"
 )
 
 // EmitMinimizer writes the generated minimizer for p: header, status,
@@ -49,7 +49,7 @@ func formatInto(w io.Writer, src []byte, usesMath bool) error {
 	fset := token.NewFileSet()
 	file, err := parser.ParseFile(fset, "", src, parser.ParseComments)
 	if err != nil {
-		return fmt.Errorf("generated code does not parse (a nadir bug): %v\n%s", err, numbered(src))
+		return fmt.Errorf("generated code does not parse (a thalweg bug): %v\n%s", err, numbered(src))
 	}
 	if usesMath {
 		astutil.AddImport(fset, file, "math")

@@ -33,7 +33,7 @@ const (
 	GradSlice                   // func(x, g []T)
 )
 
-// Shape is what nadir learned about the objective from the type checker.
+// Shape is what thalweg learned about the objective from the type checker.
 type Shape struct {
 	Package   string // package name
 	Elem      string // "float32" or "float64"
@@ -61,10 +61,10 @@ func (s Shape) Scalar() bool { return s.Arg == ArgScalar }
 type loadedPackage struct {
 	dir   string
 	pkg   *packages.Package
-	files map[string]bool // files nadir generated, by absolute path
+	files map[string]bool // files thalweg generated, by absolute path
 }
 
-// loadPackage type-checks the package in dir. Type errors in files nadir
+// loadPackage type-checks the package in dir. Type errors in files thalweg
 // generated are ignored: they are about to be replaced.
 func loadPackage(dir string, probs *Problems) *loadedPackage {
 	abs, err := filepath.Abs(dir)
@@ -107,7 +107,7 @@ func loadPackage(dir string, probs *Problems) *loadedPackage {
 }
 
 // aboutGeneratedFile reports whether a redeclaration error is about a
-// name one of nadir's files declares.
+// name one of thalweg's files declares.
 func (lp *loadedPackage) aboutGeneratedFile(msg string) bool {
 	name, _, ok := strings.Cut(msg, " redeclared")
 	if !ok {
@@ -117,7 +117,7 @@ func (lp *loadedPackage) aboutGeneratedFile(msg string) bool {
 	return generated
 }
 
-// names maps each package-level name declared in nadir's files
+// names maps each package-level name declared in thalweg's files
 // (generated) or in the user's (not generated) to its declaration.
 func (lp *loadedPackage) names(generated bool) map[string]token.Pos {
 	names := map[string]token.Pos{}
@@ -151,7 +151,7 @@ func (lp *loadedPackage) names(generated bool) map[string]token.Pos {
 // splitPackageError turns one go/packages error into positioned problems.
 // A failed compile arrives as one list error, "# pkg" followed by one
 // "file:line:col: msg" line per compiler error; each becomes its own
-// problem so that errors in nadir's own files can be told apart.
+// problem so that errors in thalweg's own files can be told apart.
 func splitPackageError(e packages.Error, dir string) []Problem {
 	if !strings.HasPrefix(e.Msg, "# ") {
 		return []Problem{{Pos: parseErrorPos(e.Pos, dir), Msg: e.Msg}}
@@ -188,7 +188,7 @@ func parseErrorPos(s, dir string) Pos {
 	return Pos{File: dir, Line: 1, Col: 1}
 }
 
-// isGenerated reports whether a file starts with nadir's header.
+// isGenerated reports whether a file starts with thalweg's header.
 func isGenerated(path string) bool {
 	data, err := os.ReadFile(path)
 	return err == nil && hasHeader(data)

@@ -16,7 +16,7 @@ import (
 // test files are left out of the build (they may be stale or broken, and
 // only the harness runs), and so is vet.
 func runOverlay(p *Plan, files map[string][]byte, run string) ([]byte, error) {
-	tmp, err := os.MkdirTemp("", "nadir-run-")
+	tmp, err := os.MkdirTemp("", "thalweg-run-")
 	if err != nil {
 		return nil, err
 	}

@@ -6,7 +6,7 @@ import (
 	"path/filepath"
 	"strconv"
 
-	"github.com/nadir-opt/nadir/rules"
+	"github.com/thalweg-go/thalweg/rules"
 )
 
 // Plan is everything needed to write one minimizer: the validated spec

@@ -4,10 +4,10 @@ import (
 	"fmt"
 	"io"
 
-	"github.com/nadir-opt/nadir/rules"
+	"github.com/thalweg-go/thalweg/rules"
 )
 
-// Version is nadir's version.
+// Version is thalweg's version.
 const Version = "0.1.0"
 
 // WriteRules renders the rules tables: every direction, step rule and

@@ -13,7 +13,7 @@ import (
 
 	toml "github.com/pelletier/go-toml/v2"
 
-	"github.com/nadir-opt/nadir/rules"
+	"github.com/thalweg-go/thalweg/rules"
 )
 
 // specFile is the TOML document as decoded; pointers tell a key that was
@@ -206,7 +206,7 @@ func parseSpecData(path string, data []byte) (*Spec, error) {
 var decodeTypePattern = regexp.MustCompile(`cannot decode TOML (\w+) into .* of type (\S+)$`)
 
 // decodeMessage rewrites go-toml's type-mismatch message, which names
-// nadir's Go fields, in the spec's terms.
+// thalweg's Go fields, in the spec's terms.
 func decodeMessage(e *toml.DecodeError) string {
 	msg := strings.TrimPrefix(e.Error(), "toml: ")
 	m := decodeTypePattern.FindStringSubmatch(msg)

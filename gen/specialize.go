@@ -18,7 +18,7 @@ import (
 
 	"golang.org/x/tools/go/ast/astutil"
 
-	"github.com/nadir-opt/nadir/templates"
+	"github.com/thalweg-go/thalweg/templates"
 )
 
 // kernelSource is the templates package, parsed and type-checked once.

@@ -7,12 +7,12 @@ import (
 	"path/filepath"
 	"strings"
 
-	"github.com/nadir-opt/nadir/rules"
+	"github.com/thalweg-go/thalweg/rules"
 )
 
 // WriteStarter writes a starter spec for the objective ref ("Func" or
 // "Type.Method") of the Go package in dir: every key present, with its
-// default and a one-line comment, ready for `nadir gen`. A gradient named
+// default and a one-line comment, ready for `thalweg gen`. A gradient named
 // like the objective plus "Grad" or "Gradient" that fits is proposed as
 // the analytic one, and a New<Type> function as the instance.
 func WriteStarter(w io.Writer, dir, ref string) error {
@@ -101,9 +101,9 @@ func WriteStarter(w io.Writer, dir, ref string) error {
 		entry := key + " = " + value
 		fmt.Fprintf(&b, "%-30s # %s\n", entry, comment)
 	}
-	fmt.Fprintf(&b, "# Starter spec for %s, written by `nadir init`: every key with its\n", ref)
-	b.WriteString("# default and what it means (`nadir rules` explains each choice).\n")
-	b.WriteString("# Replace start with a typical point, then run `nadir gen` on this file.\n\n")
+	fmt.Fprintf(&b, "# Starter spec for %s, written by `thalweg init`: every key with its\n", ref)
+	b.WriteString("# default and what it means (`thalweg rules` explains each choice).\n")
+	b.WriteString("# Replace start with a typical point, then run `thalweg gen` on this file.\n\n")
 	b.WriteString("[[minimizer]]\n")
 	kv("name", fmt.Sprintf("%q", name), "exported name of the generated minimizer")
 	kv("objective", fmt.Sprintf("%q", ref), signatureText(sig))
@@ -162,7 +162,7 @@ func paramValue(p rules.Param, v float64) string {
 	return formatFloat(v)
 }
 
-// StarterPath is the default file name of `nadir init` for an objective.
+// StarterPath is the default file name of `thalweg init` for an objective.
 func StarterPath(ref string) string {
 	return filepath.Join(".", snakeCase(strings.ReplaceAll(ref, ".", ""))+".toml")
 }

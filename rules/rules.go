@@ -1,7 +1,7 @@
 // Package rules describes every search direction, step rule and derivative
-// source nadir offers: its spec name, the math it implements, the
+// source thalweg offers: its spec name, the math it implements, the
 // parameters it reads with their defaults and valid ranges, and its
-// references. The gen package plans from these tables and `nadir rules`
+// references. The gen package plans from these tables and `thalweg rules`
 // prints them; the kernels themselves live in the templates package.
 package rules
 

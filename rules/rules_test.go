@@ -8,7 +8,7 @@ import (
 	"strings"
 	"testing"
 
-	"github.com/nadir-opt/nadir/templates"
+	"github.com/thalweg-go/thalweg/templates"
 )
 
 func TestParamRanges(t *testing.T) {

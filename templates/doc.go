@@ -1,4 +1,4 @@
-// Package templates holds the algorithm kernels that nadir specializes.
+// Package templates holds the algorithm kernels that thalweg specializes.
 //
 // Every kernel here is ordinary Go, written once for float64 vectors of a
 // stand-in dimension and a stand-in objective, and unit-tested in place.

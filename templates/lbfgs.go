@@ -10,7 +10,7 @@ package templates
 // Memory (the spec's memory key, lbfgsMemory here): a few pairs suffice;
 // Nocedal & Wright report that values between 3 and 20 usually work (§7.2)
 // and Liu & Nocedal found little gain beyond small values on their test
-// set (recalled from memory). nadir's default is 5, to keep the stack
+// set (recalled from memory). thalweg's default is 5, to keep the stack
 // small on devices.
 //
 // References:

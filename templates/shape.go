@@ -31,7 +31,7 @@ func (r *receiver) gradient(x, g *vec) {
 	r.gradientFunc(x, g)
 }
 
-// observe stands in for the hook of `nadir trace`, called with the state
+// observe stands in for the hook of `thalweg trace`, called with the state
 // after the first gradient and after every accepted step. gen deletes its
 // calls from every minimizer it writes and keeps them, pointed at a
 // recorder, only in the copy it compiles for tracing. Each call is

@@ -1,5 +1,5 @@
 // Package emulated runs the outside checks again on every CI target, each
-// under emulation (see github.com/nadir-opt/nadir/internal/targets): all
+// under emulation (see github.com/thalweg-go/thalweg/internal/targets): all
 // of ../linesearch, and of ../mgh the problems in Representative, both the
 // published-minima assertions and the generated minimizers' own tests.
 // The results tables are compared byte for byte only on the platform they
@@ -12,7 +12,7 @@ import (
 	"strings"
 	"testing"
 
-	"github.com/nadir-opt/nadir/internal/targets"
+	"github.com/thalweg-go/thalweg/internal/targets"
 )
 
 // Representative are the MGH problems run on every target: 16 of the 20

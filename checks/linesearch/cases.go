@@ -42,9 +42,9 @@ type Constants struct {
 
 // ConstantSets gives, for a function, the two sets of constants checked:
 //
-//   - "nw": c1 = 1e-4, c2 = 0.9, nadir's defaults for a non-CG direction
+//   - "nw": c1 = 1e-4, c2 = 0.9, thalweg's defaults for a non-CG direction
 //     (Nocedal & Wright 2006, §3.1);
-//   - "mt": the paper's table constants where nadir accepts them. nadir
+//   - "mt": the paper's table constants where thalweg accepts them. thalweg
 //     requires c1 < c2 (N&W's 0 < c1 < c2 < 1), while MT Tables 2–6 use
 //     μ = η; there the paper's curvature constant η is kept (it is what
 //     makes those tables hard) and c1 = η/10 is taken, a weaker sufficient

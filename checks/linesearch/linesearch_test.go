@@ -9,7 +9,7 @@ import (
 
 	"gonum.org/v1/gonum/optimize/functions"
 
-	"github.com/nadir-opt/nadir/checks/internal/results"
+	"github.com/thalweg-go/thalweg/checks/internal/results"
 )
 
 var update = flag.Bool("update", false, "rewrite testdata/results.md from this run")
@@ -58,8 +58,8 @@ func phi(name string, a float64) (f, g float64) {
 //	curvature (wolfe)    φ'(α) ≥ c2·φ'(0)
 //	strong curvature     |φ'(α)| ≤ c2·|φ'(0)|
 //
-// with the spec's c1 and c2 (cases.go: nadir's defaults 1e-4 and 0.9, and
-// MT's table constants as far as nadir accepts them).
+// with the spec's c1 and c2 (cases.go: thalweg's defaults 1e-4 and 0.9, and
+// MT's table constants as far as thalweg accepts them).
 func TestOneLineSearch(t *testing.T) {
 	var table bytes.Buffer
 	table.WriteString(resultsHeader)
@@ -109,14 +109,14 @@ func TestOneLineSearch(t *testing.T) {
 	results.Compare(t, resultsFile, table.Bytes(), *update, "go test ./linesearch -update")
 }
 
-const resultsHeader = `# Moré–Thuente line-search functions: one line search of nadir's generated minimizers
+const resultsHeader = `# Moré–Thuente line-search functions: one line search of thalweg's generated minimizers
 
 Written by ` + "`go test ./linesearch -update`" + ` in the checks module (recorded on linux/amd64;
 compared byte for byte there). Each run is a 1-D steepest-descent minimizer
 started at 0 and stopped after one iteration, whose line search tries α₀
 first. "table" is the table of Moré & Thuente, ACM TOMS 20(3), 1994, §5,
 that uses the function. c1 and c2 are the spec's constants: 1e-4 and 0.9
-(nadir's defaults), or the paper's (μ, η) where nadir accepts them (c1 < c2);
+(thalweg's defaults), or the paper's (μ, η) where thalweg accepts them (c1 < c2);
 where the paper has μ = η the paper's η is kept and c1 = η/10. Evaluations
 count every objective call, the one at α = 0 included. The last column says
 whether α also meets the paper's own conditions, strong Wolfe with (μ, η);

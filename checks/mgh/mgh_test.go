@@ -11,7 +11,7 @@ import (
 
 	"gonum.org/v1/gonum/optimize/functions"
 
-	"github.com/nadir-opt/nadir/checks/internal/results"
+	"github.com/thalweg-go/thalweg/checks/internal/results"
 )
 
 var update = flag.Bool("update", false, "rewrite testdata/results.md from this run")
@@ -31,7 +31,7 @@ type outcome struct {
 
 // fTol is the tolerance on the final value: |f − f*| ≤ fTol·max(1, |f*|)
 // for the recorded minimum matched. 1e-10 is common practice for a run
-// stopped at ‖∇f‖∞ ≤ 1e-8 (nadir's default gradient limit): f − f* is
+// stopped at ‖∇f‖∞ ≤ 1e-8 (thalweg's default gradient limit): f − f* is
 // second order in x − x*.
 const fTol = 1e-10
 
@@ -329,7 +329,7 @@ func evaluate(p Problem, x []float64) float64 {
 	return f.Func(x)
 }
 
-const resultsHeader = `# MGH test set: results of nadir's generated minimizers
+const resultsHeader = `# MGH test set: results of thalweg's generated minimizers
 
 Written by ` + "`go test ./mgh -update`" + ` in the checks module (recorded on linux/amd64;
 compared byte for byte there). Each run starts at the problem's standard

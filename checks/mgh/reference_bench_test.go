@@ -15,9 +15,9 @@ import (
 //	go test -run '^$' -bench Rosenbrock -benchmem ./mgh
 //
 // in the checks module. Both use the analytic gradient; the stop tests
-// differ in detail (nadir: largest gradient component ≤ 1e-8; gonum: its
+// differ in detail (thalweg: largest gradient component ≤ 1e-8; gonum: its
 // default gradient threshold), so the evaluation counts are reported too.
-func BenchmarkRosenbrockNadirBFGS(b *testing.B) {
+func BenchmarkRosenbrockThalwegBFGS(b *testing.B) {
 	b.ReportAllocs()
 	var r RosenbrockBFGSAnalyticResult
 	for i := 0; i < b.N; i++ {

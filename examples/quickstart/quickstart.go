@@ -1,9 +1,9 @@
-// Package quickstart is nadir's first example: two objectives of a small
+// Package quickstart is thalweg's first example: two objectives of a small
 // motor controller, minimized by generated code. The data are invented for
 // the demo.
 package quickstart
 
-//go:generate go tool nadir gen quickstart.toml
+//go:generate go tool thalweg gen quickstart.toml
 
 // GainCost is the cost of running the speed loop at gain k: energy grows
 // as k²/2 while settling time, weighted by 8, shrinks as 1/k. Its minimum

@@ -1,4 +1,4 @@
-// Package shapes holds objectives of every shape for nadir's golden files.
+// Package shapes holds objectives of every shape for thalweg's golden files.
 // The functions are small closed forms; the golden files pin the
 // generated text, not the numbers.
 package shapes

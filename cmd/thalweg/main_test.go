@@ -13,7 +13,7 @@ import (
 	"strings"
 	"testing"
 
-	"github.com/nadir-opt/nadir/rules"
+	"github.com/thalweg-go/thalweg/rules"
 )
 
 // The quickstart example's outputs, generated from quickstart.toml.
@@ -103,8 +103,8 @@ func sameFiles(before, after map[string]string) string {
 	return strings.Join(diffs, ", ")
 }
 
-// nadir runs the CLI in-process.
-func nadir(args ...string) (code int, stdout, stderr string) {
+// thalweg runs the CLI in-process.
+func thalweg(args ...string) (code int, stdout, stderr string) {
 	var out, errb bytes.Buffer
 	code = run(args, &out, &errb)
 	return code, out.String(), errb.String()
@@ -124,7 +124,7 @@ func problemLines(t *testing.T, stderr string) []string {
 
 func TestGenWritesBothFilesAndIsStable(t *testing.T) {
 	root := quickstartModule(t)
-	code, _, stderr := nadir("gen", "quickstart.toml")
+	code, _, stderr := thalweg("gen", "quickstart.toml")
 	if code != 0 {
 		t.Fatalf("gen exited %d:\n%s", code, stderr)
 	}
@@ -140,7 +140,7 @@ func TestGenWritesBothFilesAndIsStable(t *testing.T) {
 		}
 		head, _, _ := strings.Cut(data, "\n")
 		if !headerRE.MatchString(head) {
-			t.Errorf("%s starts with %q, want nadir's header", name, head)
+			t.Errorf("%s starts with %q, want thalweg's header", name, head)
 		}
 		if strings.Contains(data, root) {
 			t.Errorf("%s contains the absolute path %s", name, root)
@@ -151,7 +151,7 @@ func TestGenWritesBothFilesAndIsStable(t *testing.T) {
 	}
 
 	// A second run rewrites the same bytes and leaves no temporary file.
-	if code, _, stderr := nadir("gen", "quickstart.toml"); code != 0 {
+	if code, _, stderr := thalweg("gen", "quickstart.toml"); code != 0 {
 		t.Fatalf("second gen exited %d:\n%s", code, stderr)
 	}
 	if d := sameFiles(first, snapshot(t, root)); d != "" {
@@ -160,7 +160,7 @@ func TestGenWritesBothFilesAndIsStable(t *testing.T) {
 
 	// So does a run from another working directory.
 	t.Chdir(root)
-	if code, _, stderr := nadir("gen", filepath.Join("qs", "quickstart.toml")); code != 0 {
+	if code, _, stderr := thalweg("gen", filepath.Join("qs", "quickstart.toml")); code != 0 {
 		t.Fatalf("gen from the parent directory exited %d:\n%s", code, stderr)
 	}
 	if d := sameFiles(first, snapshot(t, root)); d != "" {
@@ -170,12 +170,12 @@ func TestGenWritesBothFilesAndIsStable(t *testing.T) {
 
 func TestCheck(t *testing.T) {
 	root := quickstartModule(t)
-	if code, _, stderr := nadir("gen", "quickstart.toml"); code != 0 {
+	if code, _, stderr := thalweg("gen", "quickstart.toml"); code != 0 {
 		t.Fatalf("gen exited %d:\n%s", code, stderr)
 	}
 	fresh := snapshot(t, root)
 
-	code, _, stderr := nadir("check", "quickstart.toml")
+	code, _, stderr := thalweg("check", "quickstart.toml")
 	if code != 0 {
 		t.Fatalf("check on fresh files exited %d:\n%s", code, stderr)
 	}
@@ -190,7 +190,7 @@ func TestCheck(t *testing.T) {
 	edited := fresh["qs/calibrate_min.go"] + "\n// edited by hand\n"
 	writeFile(t, "calibrate_min.go", edited)
 	before := snapshot(t, root)
-	code, _, stderr = nadir("check", "quickstart.toml")
+	code, _, stderr = thalweg("check", "quickstart.toml")
 	if code != 1 {
 		t.Fatalf("check with a missing and an edited file exited %d, want 1:\n%s", code, stderr)
 	}
@@ -209,18 +209,18 @@ func TestCheck(t *testing.T) {
 	}
 
 	// Only the edit left: still 1.
-	if code, _, stderr := nadir("gen", "quickstart.toml"); code != 0 {
+	if code, _, stderr := thalweg("gen", "quickstart.toml"); code != 0 {
 		t.Fatalf("gen exited %d:\n%s", code, stderr)
 	}
 	writeFile(t, "tune_gain_min.go", fresh["qs/tune_gain_min.go"]+" ")
-	code, _, stderr = nadir("check", "quickstart.toml")
+	code, _, stderr = thalweg("check", "quickstart.toml")
 	if code != 1 || !containsLine(stderr, "tune_gain_min.go: stale") {
 		t.Errorf("check with one edited file exited %d, want 1 naming it:\n%s", code, stderr)
 	}
 
 	// A hand-written file at an output path is refused by check as by gen.
 	writeFile(t, "tune_gain_min.go", "package quickstart\n")
-	code, _, stderr = nadir("check", "quickstart.toml")
+	code, _, stderr = thalweg("check", "quickstart.toml")
 	if code != 2 || !strings.Contains(stderr, "tune_gain_min.go:1:1: refusing to overwrite") {
 		t.Errorf("check over a hand-written file exited %d, want 2 with the refusal:\n%s", code, stderr)
 	}
@@ -239,7 +239,7 @@ bogus = 1
 `)
 	before := snapshot(t, root)
 	for _, verb := range []string{"gen", "check"} {
-		code, _, stderr := nadir(verb, "bad.toml")
+		code, _, stderr := thalweg(verb, "bad.toml")
 		if code != 2 {
 			t.Fatalf("%s on a bad spec exited %d, want 2:\n%s", verb, code, stderr)
 		}
@@ -264,7 +264,7 @@ objective = "rawReadings"
 start = 1.0
 `)
 	before = snapshot(t, root)
-	code, _, stderr := nadir("gen", "bad.toml")
+	code, _, stderr := thalweg("gen", "bad.toml")
 	if code != 2 {
 		t.Fatalf("gen with a non-function objective exited %d, want 2:\n%s", code, stderr)
 	}
@@ -276,7 +276,7 @@ start = 1.0
 	}
 
 	// A spec that does not exist.
-	code, _, stderr = nadir("gen", "missing.toml")
+	code, _, stderr = thalweg("gen", "missing.toml")
 	if code != 2 || !strings.HasPrefix(stderr, "missing.toml:1:1: ") {
 		t.Errorf("gen missing.toml exited %d:\n%s", code, stderr)
 	}
@@ -288,7 +288,7 @@ func TestGenRefusesHandWrittenFile(t *testing.T) {
 	hand := "package quickstart\n\n// Written by hand.\n"
 	writeFile(t, "tune_gain_min_test.go", hand)
 	before := snapshot(t, root)
-	code, _, stderr := nadir("gen", "quickstart.toml")
+	code, _, stderr := thalweg("gen", "quickstart.toml")
 	if code != 2 {
 		t.Fatalf("gen over a hand-written file exited %d, want 2:\n%s", code, stderr)
 	}
@@ -316,7 +316,7 @@ name = "Second"
 objective = "GainCost"
 `)
 	before := snapshot(t, root)
-	code, _, stderr := nadir("gen", "quickstart.toml", filepath.Join("other", "other.toml"))
+	code, _, stderr := thalweg("gen", "quickstart.toml", filepath.Join("other", "other.toml"))
 	if code != 2 {
 		t.Fatalf("gen with a bad second spec exited %d, want 2:\n%s", code, stderr)
 	}
@@ -327,7 +327,7 @@ objective = "GainCost"
 		t.Errorf("gen wrote files for the good spec: %s", d)
 	}
 
-	code, _, stderr = nadir("gen", "quickstart.toml", "second.toml")
+	code, _, stderr = thalweg("gen", "quickstart.toml", "second.toml")
 	if code != 2 {
 		t.Fatalf("gen with a bad second spec exited %d, want 2:\n%s", code, stderr)
 	}
@@ -348,7 +348,7 @@ output = "handwritten.go"
 `)
 	writeFile(t, "handwritten.go", "package quickstart\n")
 	before = snapshot(t, root)
-	code, _, stderr = nadir("gen", "quickstart.toml", "second.toml")
+	code, _, stderr = thalweg("gen", "quickstart.toml", "second.toml")
 	if code != 2 {
 		t.Fatalf("gen over a hand-written file exited %d, want 2:\n%s", code, stderr)
 	}
@@ -370,26 +370,26 @@ func TestUsageErrors(t *testing.T) {
 		{"--bogus"},
 		{"gen", "x.toml", "--bogus"},
 	} {
-		code, stdout, stderr := nadir(args...)
+		code, stdout, stderr := thalweg(args...)
 		if code != 2 {
-			t.Errorf("nadir %q exited %d, want 2", args, code)
+			t.Errorf("thalweg %q exited %d, want 2", args, code)
 		}
-		if !strings.Contains(stderr, "usage:") || !strings.Contains(stderr, "nadir gen SPEC...") {
-			t.Errorf("nadir %q: stderr lacks the usage:\n%s", args, stderr)
+		if !strings.Contains(stderr, "usage:") || !strings.Contains(stderr, "thalweg gen SPEC...") {
+			t.Errorf("thalweg %q: stderr lacks the usage:\n%s", args, stderr)
 		}
 		if stdout != "" {
-			t.Errorf("nadir %q wrote to stdout:\n%s", args, stdout)
+			t.Errorf("thalweg %q wrote to stdout:\n%s", args, stdout)
 		}
 	}
 }
 
 func TestVersionAndRules(t *testing.T) {
-	code, stdout, stderr := nadir("version")
-	if code != 0 || !strings.HasPrefix(stdout, "nadir ") || stderr != "" {
+	code, stdout, stderr := thalweg("version")
+	if code != 0 || !strings.HasPrefix(stdout, "thalweg ") || stderr != "" {
 		t.Errorf("version: exit %d, stdout %q, stderr %q", code, stdout, stderr)
 	}
 
-	code, stdout, stderr = nadir("rules")
+	code, stdout, stderr = thalweg("rules")
 	if code != 0 || stderr != "" {
 		t.Fatalf("rules: exit %d, stderr %q", code, stderr)
 	}
@@ -428,9 +428,9 @@ func keys(m map[string]string) []string {
 
 func TestHelpExitsZero(t *testing.T) {
 	for _, flag := range []string{"-h", "--help"} {
-		code, stdout, _ := nadir(flag)
-		if code != 0 || !strings.Contains(stdout, "nadir gen SPEC...") {
-			t.Errorf("nadir %s exited %d, want 0 with the usage on stdout:\n%s", flag, code, stdout)
+		code, stdout, _ := thalweg(flag)
+		if code != 0 || !strings.Contains(stdout, "thalweg gen SPEC...") {
+			t.Errorf("thalweg %s exited %d, want 0 with the usage on stdout:\n%s", flag, code, stdout)
 		}
 	}
 }
@@ -440,11 +440,11 @@ func TestHelpExitsZero(t *testing.T) {
 // declares the name (the compiler's "redeclared" error is not repeated).
 func TestGenReportsNameClashOnce(t *testing.T) {
 	quickstartModule(t)
-	if code, _, stderr := nadir("gen", "quickstart.toml"); code != 0 {
+	if code, _, stderr := thalweg("gen", "quickstart.toml"); code != 0 {
 		t.Fatalf("gen exited %d:\n%s", code, stderr)
 	}
 	writeFile(t, "clash.go", "package quickstart\n\ntype CalibrateStatus int\n")
-	code, _, stderr := nadir("gen", "quickstart.toml")
+	code, _, stderr := thalweg("gen", "quickstart.toml")
 	want := "clash.go:3:6: CalibrateStatus is already declared in package quickstart; minimizer Calibrate generates a declaration of that name (rename one of them)"
 	if code != 2 || strings.TrimSpace(stderr) != want {
 		t.Errorf("gen exited %d, want 2 with exactly\n%s\ngot:\n%s", code, want, stderr)
@@ -470,7 +470,7 @@ func (p *Plant) CostGrad(x, g *[2]float64) {
 	g[0], g[1] = 2*(x[0]-p.Target[0]), 2*(x[1]-p.Target[1])
 }
 `)
-	code, stdout, stderr := nadir("init", "Plant.Cost")
+	code, stdout, stderr := thalweg("init", "Plant.Cost")
 	if code != 0 || !strings.Contains(stdout, "plant_cost.toml") {
 		t.Fatalf("init exited %d:\n%s%s", code, stdout, stderr)
 	}
@@ -488,30 +488,30 @@ func (p *Plant) CostGrad(x, g *[2]float64) {
 			t.Errorf("starter spec lacks %q:\n%s", want, spec)
 		}
 	}
-	if code, _, stderr := nadir("gen", "plant_cost.toml"); code != 0 {
+	if code, _, stderr := thalweg("gen", "plant_cost.toml"); code != 0 {
 		t.Fatalf("gen on the starter spec exited %d:\n%s", code, stderr)
 	}
-	if code, _, stderr := nadir("init", "GainCost", "--out", "gain.toml"); code != 0 {
+	if code, _, stderr := thalweg("init", "GainCost", "--out", "gain.toml"); code != 0 {
 		t.Fatalf("init --out exited %d:\n%s", code, stderr)
 	}
 	writeFile(t, "gain.toml", "# mine\n")
-	code, _, stderr = nadir("init", "GainCost", "--out", "gain.toml")
+	code, _, stderr = thalweg("init", "GainCost", "--out", "gain.toml")
 	if got, _ := os.ReadFile("gain.toml"); code != 2 || string(got) != "# mine\n" || !strings.Contains(stderr, "gain.toml:1:1: refusing to overwrite") {
 		t.Errorf("init over an existing file exited %d and left %q:\n%s", code, got, stderr)
 	}
 	// Too many unknowns for bfgs's matrix on the stack: init proposes
 	// lbfgs, and refuses when not even a vector fits.
 	writeFile(t, "big.go", "package quickstart\n\nfunc Wide(x *[200]float64) float64 { return x[0] * x[0] }\n\nfunc Huge(x *[20000]float64) float64 { return x[0] * x[0] }\n")
-	if code, _, stderr := nadir("init", "Wide"); code != 0 {
+	if code, _, stderr := thalweg("init", "Wide"); code != 0 {
 		t.Fatalf("init Wide exited %d:\n%s", code, stderr)
 	}
 	if data, _ := os.ReadFile("wide.toml"); !strings.Contains(string(data), `direction = "lbfgs"`) {
 		t.Errorf("init for 200 unknowns does not propose lbfgs:\n%s", data)
 	}
-	if code, _, stderr := nadir("init", "Huge"); code != 2 || !strings.Contains(stderr, "big.go:5:6: objective Huge has 20000 unknowns") {
+	if code, _, stderr := thalweg("init", "Huge"); code != 2 || !strings.Contains(stderr, "big.go:5:6: objective Huge has 20000 unknowns") {
 		t.Errorf("init for 20000 unknowns exited %d:\n%s", code, stderr)
 	}
-	if code, _, stderr := nadir("init", "NoSuchFunc"); code != 2 || !strings.Contains(stderr, "objective NoSuchFunc: no such function") {
+	if code, _, stderr := thalweg("init", "NoSuchFunc"); code != 2 || !strings.Contains(stderr, "objective NoSuchFunc: no such function") {
 		t.Errorf("init of a missing objective exited %d:\n%s", code, stderr)
 	}
 	if _, err := os.Stat("no_such_func.toml"); err == nil {
@@ -523,7 +523,7 @@ func (p *Plant) CostGrad(x, g *[2]float64) {
 // iteration and writes the CSV and SVG, leaving the package untouched.
 func TestTrace(t *testing.T) {
 	quickstartModule(t)
-	if code, _, stderr := nadir("gen", "quickstart.toml"); code != 0 {
+	if code, _, stderr := thalweg("gen", "quickstart.toml"); code != 0 {
 		t.Fatalf("gen exited %d:\n%s", code, stderr)
 	}
 	// The package's own tests do not even compile: trace leaves them out.
@@ -531,7 +531,7 @@ func TestTrace(t *testing.T) {
 	before := snapshot(t, ".")
 	csvPath := filepath.Join(t.TempDir(), "calibrate.csv")
 	svgPath := filepath.Join(t.TempDir(), "calibrate.svg")
-	code, stdout, stderr := nadir("trace", "quickstart.toml", "--name", "Calibrate", "--csv", csvPath, "--svg", svgPath)
+	code, stdout, stderr := thalweg("trace", "quickstart.toml", "--name", "Calibrate", "--csv", csvPath, "--svg", svgPath)
 	if code != 0 {
 		t.Fatalf("trace exited %d:\n%s%s", code, stdout, stderr)
 	}
@@ -569,7 +569,7 @@ func TestTrace(t *testing.T) {
 		t.Errorf("SVG missing or without a curve: %v", err)
 	}
 
-	code, _, stderr = nadir("trace", "quickstart.toml")
+	code, _, stderr = thalweg("trace", "quickstart.toml")
 	if code != 2 || !strings.Contains(stderr, "quickstart.toml:1:1: the spec has several minimizers; choose one with --name: TuneGain, Calibrate") {
 		t.Errorf("trace without --name on two minimizers exited %d:\n%s", code, stderr)
 	}
@@ -580,7 +580,7 @@ func TestTrace(t *testing.T) {
 func TestTune(t *testing.T) {
 	quickstartModule(t)
 	before := snapshot(t, ".")
-	code, stdout, stderr := nadir("tune", "quickstart.toml", "--name", "Calibrate")
+	code, stdout, stderr := thalweg("tune", "quickstart.toml", "--name", "Calibrate")
 	if code != 0 {
 		t.Fatalf("tune exited %d:\n%s%s", code, stdout, stderr)
 	}
@@ -608,4 +608,37 @@ func TestTune(t *testing.T) {
 			t.Errorf("the spec's bfgs + armijo row is not marked: %q", r)
 		}
 	}
+}
+
+// TestGenReplacesFormerHeader: files generated before the project was
+// renamed carry the former tool name in their header; gen recognises them
+// as its own and replaces them with thalweg's header.
+func TestGenReplacesFormerHeader(t *testing.T) {
+	root := quickstartModule(t)
+	if code, _, stderr := thalweg("gen", "quickstart.toml"); code != 0 {
+		t.Fatalf("gen exited %d:\n%s", code, stderr)
+	}
+	fresh := snapshot(t, root)
+	former := strings.Replace(fresh["qs/tune_gain_min.go"], "by thalweg from", "by "+reverseString("ridan")+" from", 1)
+	if former == fresh["qs/tune_gain_min.go"] {
+		t.Fatal("the generated file has no header to rewrite")
+	}
+	writeFile(t, "tune_gain_min.go", former)
+	if code, _, stderr := thalweg("check", "quickstart.toml"); code != 1 || !containsLine(stderr, "tune_gain_min.go: stale") {
+		t.Errorf("check over a file with the former header exited %d, want 1 calling it stale:\n%s", code, stderr)
+	}
+	if code, _, stderr := thalweg("gen", "quickstart.toml"); code != 0 {
+		t.Fatalf("gen over a file with the former header exited %d:\n%s", code, stderr)
+	}
+	if d := sameFiles(fresh, snapshot(t, root)); d != "" {
+		t.Errorf("gen did not restore thalweg's header: %s", d)
+	}
+}
+
+func reverseString(s string) string {
+	r := []rune(s)
+	for i, j := 0, len(r)-1; i < j; i, j = i+1, j-1 {
+		r[i], r[j] = r[j], r[i]
+	}
+	return string(r)
 }

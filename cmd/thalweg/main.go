@@ -1,12 +1,12 @@
-// Command nadir writes allocation-free minimizers from TOML specs.
+// Command thalweg writes allocation-free minimizers from TOML specs.
 //
-//	nadir gen SPEC...     write the generated files
-//	nadir check SPEC...   exit 1 when a generated file is missing or stale
-//	nadir init OBJECTIVE  write a starter spec for an objective
-//	nadir tune SPEC       rank every sensible direction × step rule
-//	nadir trace SPEC      run a minimizer once and print its iterations
-//	nadir rules           list directions, step rules and derivative sources
-//	nadir version         print the version
+//	thalweg gen SPEC...     write the generated files
+//	thalweg check SPEC...   exit 1 when a generated file is missing or stale
+//	thalweg init OBJECTIVE  write a starter spec for an objective
+//	thalweg tune SPEC       rank every sensible direction × step rule
+//	thalweg trace SPEC      run a minimizer once and print its iterations
+//	thalweg rules           list directions, step rules and derivative sources
+//	thalweg version         print the version
 //
 // Exit status: 0 on success, 1 when check finds stale files, 2 on any
 // spec, objective or usage error. Errors read path:line:col: message.
@@ -22,21 +22,21 @@ import (
 
 	"github.com/spf13/pflag"
 
-	"github.com/nadir-opt/nadir/gen"
+	"github.com/thalweg-go/thalweg/gen"
 )
 
 const usage = `usage:
-  nadir gen SPEC...     write the minimizers each spec names, and their tests
-  nadir check SPEC...   write nothing; exit 1 naming each missing or stale file
-  nadir init OBJECTIVE [--out FILE]
+  thalweg gen SPEC...     write the minimizers each spec names, and their tests
+  thalweg check SPEC...   write nothing; exit 1 naming each missing or stale file
+  thalweg init OBJECTIVE [--out FILE]
                         write a starter spec for "Func" or "Type.Method" of the
                         package in FILE's directory (default ./<objective_in_snake_case>.toml)
-  nadir tune SPEC [--name NAME]
+  thalweg tune SPEC [--name NAME]
                         run every sensible direction × step rule from start, best first
-  nadir trace SPEC [--name NAME] [--csv FILE] [--svg FILE]
+  thalweg trace SPEC [--name NAME] [--csv FILE] [--svg FILE]
                         run the minimizer once from start, one row per iteration
-  nadir rules           list directions, step rules and derivative sources
-  nadir version         print nadir's version
+  thalweg rules           list directions, step rules and derivative sources
+  thalweg version         print thalweg's version
 `
 
 func main() {
@@ -44,7 +44,7 @@ func main() {
 }
 
 func run(args []string, stdout, stderr io.Writer) int {
-	flags := pflag.NewFlagSet("nadir", pflag.ContinueOnError)
+	flags := pflag.NewFlagSet("thalweg", pflag.ContinueOnError)
 	flags.SetOutput(stderr)
 	flags.Usage = func() {}
 	flags.SetInterspersed(false) // flags after the verb belong to the verb
@@ -53,7 +53,7 @@ func run(args []string, stdout, stderr io.Writer) int {
 			fmt.Fprint(stdout, usage)
 			return 0
 		}
-		fmt.Fprintf(stderr, "nadir: %v\n%s", err, usage)
+		fmt.Fprintf(stderr, "thalweg: %v\n%s", err, usage)
 		return 2
 	}
 	if flags.NArg() == 0 {
@@ -63,15 +63,15 @@ func run(args []string, stdout, stderr io.Writer) int {
 	verb, rest := flags.Arg(0), flags.Args()[1:]
 	switch verb {
 	case "gen", "check":
-		verbFlags := pflag.NewFlagSet("nadir "+verb, pflag.ContinueOnError)
+		verbFlags := pflag.NewFlagSet("thalweg "+verb, pflag.ContinueOnError)
 		verbFlags.SetOutput(io.Discard)
 		if err := verbFlags.Parse(rest); err != nil {
-			fmt.Fprintf(stderr, "nadir %s: %v\n%s", verb, err, usage)
+			fmt.Fprintf(stderr, "thalweg %s: %v\n%s", verb, err, usage)
 			return 2
 		}
 		rest = verbFlags.Args()
 		if len(rest) == 0 {
-			fmt.Fprintf(stderr, "nadir %s: name at least one spec file\n%s", verb, usage)
+			fmt.Fprintf(stderr, "thalweg %s: name at least one spec file\n%s", verb, usage)
 			return 2
 		}
 		outs, err := gen.Generate(rest)
@@ -87,7 +87,7 @@ func run(args []string, stdout, stderr io.Writer) int {
 				fmt.Fprintln(stderr, s)
 			}
 			if len(stale) > 0 {
-				fmt.Fprintln(stderr, "run nadir gen to regenerate")
+				fmt.Fprintln(stderr, "run thalweg gen to regenerate")
 				return 1
 			}
 			return 0
@@ -104,7 +104,7 @@ func run(args []string, stdout, stderr io.Writer) int {
 		gen.WriteRules(stdout)
 		return 0
 	case "version":
-		fmt.Fprintln(stdout, "nadir", gen.Version)
+		fmt.Fprintln(stdout, "thalweg", gen.Version)
 		return 0
 	case "init":
 		return runInit(rest, stdout, stderr)
@@ -113,17 +113,17 @@ func run(args []string, stdout, stderr io.Writer) int {
 	case "tune":
 		return runTune(rest, stdout, stderr)
 	}
-	fmt.Fprintf(stderr, "nadir: unknown command %q\n%s", verb, usage)
+	fmt.Fprintf(stderr, "thalweg: unknown command %q\n%s", verb, usage)
 	return 2
 }
 
 // runInit writes a starter spec; it never overwrites a file.
 func runInit(args []string, stdout, stderr io.Writer) int {
-	flags := pflag.NewFlagSet("nadir init", pflag.ContinueOnError)
+	flags := pflag.NewFlagSet("thalweg init", pflag.ContinueOnError)
 	flags.SetOutput(io.Discard)
 	out := flags.String("out", "", "spec file to write (default ./<objective_in_snake_case>.toml)")
 	if err := flags.Parse(args); err != nil || flags.NArg() != 1 {
-		fmt.Fprintf(stderr, "nadir init: name one objective, \"Func\" or \"Type.Method\"\n%s", usage)
+		fmt.Fprintf(stderr, "thalweg init: name one objective, \"Func\" or \"Type.Method\"\n%s", usage)
 		return 2
 	}
 	ref := flags.Arg(0)
@@ -178,14 +178,14 @@ func runTune(args []string, stdout, stderr io.Writer) int {
 // choosePlan parses SPEC [--name NAME] and the verb's own flags, and
 // resolves the minimizer; on failure it reports and returns the exit code.
 func choosePlan(verb string, args []string, stderr io.Writer, more func(*pflag.FlagSet)) (*gen.Plan, int) {
-	flags := pflag.NewFlagSet("nadir "+verb, pflag.ContinueOnError)
+	flags := pflag.NewFlagSet("thalweg "+verb, pflag.ContinueOnError)
 	flags.SetOutput(io.Discard)
 	name := flags.String("name", "", "minimizer to use (needed when the spec has several)")
 	if more != nil {
 		more(flags)
 	}
 	if err := flags.Parse(args); err != nil || flags.NArg() != 1 {
-		fmt.Fprintf(stderr, "nadir %s: name one spec\n%s", verb, usage)
+		fmt.Fprintf(stderr, "thalweg %s: name one spec\n%s", verb, usage)
 		return nil, 2
 	}
 	plan, err := gen.SelectPlan(flags.Arg(0), *name)
@@ -243,6 +243,6 @@ func report(stderr io.Writer, err error) int {
 		}
 		return 2
 	}
-	fmt.Fprintln(stderr, "nadir:", err)
+	fmt.Fprintln(stderr, "thalweg:", err)
 	return 2
 }
