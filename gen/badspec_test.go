@@ -29,20 +29,20 @@ var badSpecs = []struct {
 	}},
 	// Several unknown keys, at every level, all reported in one run.
 	{"unknown_keys.toml", []string{
-		`1:1: unknown key "packages"`,
-		`7:1: unknown key "minimizer.derivitive"`,
-		`11:1: unknown key "minimizer.step.shrinkage"`,
+		`1:1: unknown key "packages"; did you mean "package"?`,
+		`7:1: unknown key "minimizer.derivitive"; did you mean "derivative"?`,
+		`11:1: unknown key "minimizer.step.shrinkage"; did you mean "shrink"?`,
 		`15:1: unknown key "minimizer.stop.evals"`,
 	}},
 	{"unknown_table.toml", []string{
-		`6:2: unknown key "minimizer.steps"`,
+		`6:2: unknown key "minimizer.steps"; did you mean "step"?`,
 	}},
 	// Type mismatches point at the value and name the spec key.
 	{"type_string_for_number.toml", []string{
 		"7:10: step.shrink must be a number, not a TOML string",
 	}},
 	{"type_float_for_int.toml", []string{
-		"7:10: step.trials must be a whole number, not a TOML float",
+		"7:10: step.trials must be a whole number, got 2.5",
 	}},
 	{"type_number_for_string.toml", []string{
 		"4:13: direction must be a string, not a TOML integer",
@@ -60,17 +60,17 @@ var badSpecs = []struct {
 	}},
 	// A conflict with cg's default c2 points at the decrease the file sets.
 	{"curvature_default_below_decrease.toml", []string{
-		`9:12: step.decrease (c1 = 0.2) must be below the curvature constant c2 = 0.1, the default for direction "cg"; lower decrease or set step.curvature`,
+		`9:12: step.decrease (c1 = 0.2) must be below step.curvature (c2 = 0.1, the default for direction "cg"); lower step.decrease or set step.curvature`,
 	}},
 	// An unknown choice does not cascade into errors about keys that
 	// depend on it.
 	{"cascade_unknown_enum.toml", []string{
 		`4:14: derivative "exact" is not one of "analytic", "central", "forward"`,
-		`6:13: direction "l-bfgs" is not one of "bfgs", "cg", "lbfgs", "steepest"`,
+		`6:13: direction "l-bfgs" is not one of "bfgs", "cg", "lbfgs", "steepest"; did you mean "lbfgs"?`,
 	}},
 	// An unknown key inside an inline table keeps the table's name.
 	{"unknown_key_inline.toml", []string{
-		`5:27: unknown key "minimizer.step.shrinc"`,
+		`5:27: unknown key "minimizer.step.shrinc"; did you mean "shrink"?`,
 	}},
 	// Output names the go tool would ignore or build only on one platform.
 	{"output_ignored_by_go.toml", []string{
@@ -280,6 +280,21 @@ func problemLines(t *testing.T, err error, file string) []string {
 	return lines
 }
 
+// allValid reports whether no minimizer of the spec has a problem; a spec
+// returned beside problems that are not all at the top level must mark
+// the minimizers they belong to.
+func allValid(spec *Spec) bool {
+	if spec.problems > 0 {
+		return false
+	}
+	for _, m := range spec.Minimizers {
+		if !m.Valid() {
+			return false
+		}
+	}
+	return len(spec.Minimizers) > 0
+}
+
 func TestBadSpecs(t *testing.T) {
 	for _, c := range badSpecs {
 		t.Run(strings.TrimSuffix(c.file, ".toml"), func(t *testing.T) {
@@ -288,8 +303,8 @@ func TestBadSpecs(t *testing.T) {
 			if err == nil {
 				t.Fatalf("ParseSpec(%s) succeeded, want %d problems", path, len(c.want))
 			}
-			if spec != nil {
-				t.Errorf("ParseSpec returned a spec beside its error")
+			if spec != nil && allValid(spec) {
+				t.Errorf("ParseSpec returned problems but calls every minimizer valid")
 			}
 			got := problemLines(t, err, path)
 			if strings.Join(got, "\n") != strings.Join(c.want, "\n") {
@@ -371,10 +386,15 @@ func TestBadSpecSnippets(t *testing.T) {
 		{"instance empty", head + "instance = \"\"\n", []string{
 			`5:12: instance "" is not the name of a package-level variable or function`,
 		}},
-		// A type error stops go-toml, so the unknown key before it is not
-		// reported in the same run.
-		{"type error hides unknown key", "bogus = 1\n" + head + "memory = \"x\"\n", []string{
-			"6:10: memory must be a whole number, not a TOML string",
+		// A type error no longer hides other problems: all are reported
+		// in one run.
+		{"type error beside unknown key", "bogus = 1\n" + head + "direction = \"lbfgs\"\nmemory = \"x\"\n", []string{
+			`1:1: unknown key "bogus"`,
+			"7:10: memory must be a whole number, not a TOML string",
+		}},
+		// Whole numbers may be written as integral floats.
+		{"integral float", head + "direction = \"lbfgs\"\nmemory = 2.5\n[minimizer.stop]\nevaluations = 1e6\niterations = 1.5e3\n", []string{
+			"6:10: memory must be a whole number, got 2.5",
 		}},
 	}
 	for _, c := range cases {
@@ -383,8 +403,8 @@ func TestBadSpecSnippets(t *testing.T) {
 			if err == nil {
 				t.Fatalf("parseSpecData succeeded, want %d problems", len(c.want))
 			}
-			if spec != nil {
-				t.Errorf("parseSpecData returned a spec beside its error")
+			if spec != nil && allValid(spec) {
+				t.Errorf("parseSpecData returned problems but calls every minimizer valid")
 			}
 			got := problemLines(t, err, "snippet.toml")
 			if strings.Join(got, "\n") != strings.Join(c.want, "\n") {

@@ -101,8 +101,8 @@ func emitStatus(f *jen.File, p *Plan) {
 	f.Commentf("%s tells why %s stopped. Only the statuses for which Converged is true say that X is a minimizer to the spec's tolerances; check it before acting on a result.", name, p.M.Name)
 	f.Type().Id(name).Uint8()
 	var consts []jen.Code
-	for i, s := range statuses {
-		c := jen.Comment(fmt.Sprintf("%s%s: %s.", p.M.Name, s.suffix, s.doc)).Line().Id(p.M.Name + s.suffix)
+	for i, s := range rules.Statuses {
+		c := jen.Comment(fmt.Sprintf("%s%s: %s.", p.M.Name, s.Suffix, s.Doc)).Line().Id(p.M.Name + s.Suffix)
 		if i == 0 {
 			c.Id(name).Op("=").Iota().Op("+").Lit(1)
 		}
@@ -111,10 +111,10 @@ func emitStatus(f *jen.File, p *Plan) {
 	f.Const().Defs(consts...)
 	var cases []jen.Code
 	var converged *jen.Statement
-	for _, s := range statuses {
-		cases = append(cases, jen.Case(jen.Id(p.M.Name+s.suffix)).Block(jen.Return(jen.Lit(s.text))))
-		if s.converged {
-			test := jen.Id("s").Op("==").Id(p.M.Name + s.suffix)
+	for _, s := range rules.Statuses {
+		cases = append(cases, jen.Case(jen.Id(p.M.Name+s.Suffix)).Block(jen.Return(jen.Lit(s.Text))))
+		if s.Converged {
+			test := jen.Id("s").Op("==").Id(p.M.Name + s.Suffix)
 			if converged == nil {
 				converged = test
 			} else {
@@ -145,20 +145,23 @@ func emitTypes(f *jen.File, p *Plan) {
 		jen.Id("Status").Id(name+"Status").Comment("why the run stopped; check Status.Converged()"),
 	)
 	f.Commentf("%sLimits are the stop limits of one run. Pass them to %sWithLimits to change them at run time; %sDefaultLimits returns the spec's.", name, name, name)
-	f.Type().Id(name+"Limits").Struct(
-		jen.Id("Gradient").Id(elem).Comment("stop when the largest |∂f/∂xᵢ| is at most this"),
-		jen.Id("Step").Id(elem).Comment("stop when every |Δxᵢ| is at most this·(|xᵢ| + 1)"),
-		jen.Id("Iterations").Int().Comment("most accepted steps"),
-		jen.Id("Evaluations").Int().Comment("hard cap on objective calls, finite differences included; never exceeded"),
-	)
+	var fields []jen.Code
+	defaults := jen.Dict{}
+	for _, q := range rules.Params() {
+		if q.Limit == "" {
+			continue
+		}
+		t, v := jen.Id(elem), jen.Op(formatFloat(p.Value(q)))
+		if q.Kind == rules.Whole {
+			t, v = jen.Int(), jen.Lit(int(p.Value(q)))
+		}
+		fields = append(fields, jen.Id(q.Limit).Add(t).Comment(q.LimitDoc))
+		defaults[jen.Id(q.Limit)] = v
+	}
+	f.Type().Id(name + "Limits").Struct(fields...)
 	f.Commentf("%sDefaultLimits returns the stop limits of %s, [minimizer.stop].", name, p.SpecName)
 	f.Func().Id(name + "DefaultLimits").Params().Id(name + "Limits").Block(
-		jen.Return(jen.Id(name + "Limits").Values(jen.Dict{
-			jen.Id("Gradient"):    jen.Op(formatFloat(p.Stop.Gradient)),
-			jen.Id("Step"):        jen.Op(formatFloat(p.Stop.Step)),
-			jen.Id("Iterations"):  jen.Lit(p.Stop.Iterations),
-			jen.Id("Evaluations"): jen.Lit(p.Stop.Evaluations),
-		})),
+		jen.Return(jen.Id(name + "Limits").Values(defaults)),
 	)
 }
 
@@ -209,52 +212,36 @@ func emitEntry(f *jen.File, p *Plan, kernel string) {
 // entryDoc is the doc comment of the main entry point: the policy, every
 // constant, the worst-case number of objective calls and the caution.
 func entryDoc(p *Plan) []string {
-	m := p.M
-	direction, _ := rules.Lookup(rules.Directions(), m.Direction)
-	rule, _ := rules.Lookup(rules.StepRules(), m.Rule)
-	source, _ := rules.Lookup(rules.Derivatives(), m.Derivative)
 	target := p.Shape.Objective
 	if p.Shape.Receiver != "" {
 		target = p.Shape.Receiver + "." + target
 	}
 	lines := []string{
-		fmt.Sprintf("%s minimizes %s from x0, as %s specifies.", m.Name, target, p.SpecName),
+		fmt.Sprintf("%s minimizes %s from x0, as %s specifies.", p.M.Name, target, p.SpecName),
 		"",
-		fmt.Sprintf("Direction %s: %s.", m.Direction, direction.Summary),
-		fmt.Sprintf("Step rule %s: %s.", m.Rule, rule.Summary),
-		fmt.Sprintf("Derivative %s: %s.", m.Derivative, source.Summary),
+		fmt.Sprintf("Direction %s: %s.", p.Direction.Name, p.Direction.Summary),
+		fmt.Sprintf("Step rule %s: %s.", p.Rule.Name, p.Rule.Summary),
+		fmt.Sprintf("Derivative %s: %s.", p.Derivative.Name, p.Derivative.Summary),
 	}
-	var params []string
-	for _, prm := range rule.Params {
-		switch prm.Key {
-		case "initial":
-			params = append(params, "initial "+formatFloat(m.Initial))
-		case "shrink":
-			if !m.Interpolate {
-				params = append(params, "shrink "+formatFloat(m.Shrink))
-			}
-		case "decrease":
-			params = append(params, "c1 "+formatFloat(m.Decrease))
-		case "curvature":
-			params = append(params, "c2 "+formatFloat(m.Curvature))
-		case "trials":
-			params = append(params, fmt.Sprintf("at most %d trials per line search", m.Trials))
-		case "interpolate":
-			if m.Interpolate {
-				params = append(params, "trials by safeguarded quadratic/cubic interpolation")
+	var constants, stop []string
+	for _, e := range []*rules.Entry{p.Rule, p.Direction, p.Derivative} {
+		for _, q := range e.Params {
+			if shown := q.Show(p.Value(q)); shown != "" {
+				constants = append(constants, shown)
 			}
 		}
 	}
-	if m.Direction == "lbfgs" {
-		params = append(params, fmt.Sprintf("memory %d pairs", m.Memory))
+	for _, q := range rules.Params() {
+		if q.Limit != "" {
+			stop = append(stop, q.Show(p.Value(q)))
+		}
 	}
-	lines = append(lines, "Constants: "+strings.Join(params, ", ")+".")
-	lines = append(lines, fmt.Sprintf("Default stop: largest gradient component ≤ %s, every |Δxᵢ| ≤ %s·(|xᵢ| + 1), %d iterations, %d objective calls.",
-		formatFloat(p.Stop.Gradient), formatFloat(p.Stop.Step), p.Stop.Iterations, p.Stop.Evaluations))
+	lines = append(lines, "Constants: "+strings.Join(constants, ", ")+".")
+	lines = append(lines, "Default stop: "+strings.Join(stop, ", ")+".")
 	worst, byIter := p.WorstCase()
 	perGradient := ""
-	if p.Cost > 0 {
-		perGradient = fmt.Sprintf(", %d of them per gradient", p.Cost)
+	if cost := p.GradientCalls(); cost > 0 {
+		perGradient = fmt.Sprintf(", %d of them per gradient", cost)
 	}
 	lines = append(lines, "",
 		fmt.Sprintf("Worst case: %d objective calls%s (the evaluation cap; the iteration limit alone would allow %d). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.", worst, perGradient, byIter),
@@ -268,11 +255,20 @@ func entryDoc(p *Plan) []string {
 //	const ( prefixStepInitial = 1.0 // step.initial … )
 func emitTunables(f *jen.File, p *Plan, uses map[string]bool) {
 	var defs []jen.Code
-	for _, t := range tunables {
-		if !uses[t.template] {
+	for _, q := range rules.Params() {
+		if q.Const == "" || !uses[q.Const] {
 			continue
 		}
-		defs = append(defs, jen.Id(p.Prefix+upperFirst(t.template)).Op("=").Op(t.value(p)).Comment(t.source))
+		source := q.Path()
+		if q.Label != "" && q.Label != q.Key {
+			source += " (" + q.Label + ")"
+		}
+		defs = append(defs, jen.Id(p.Prefix+upperFirst(q.Const)).Op("=").Op(rules.FormatValue(q, p.Value(q))).Comment(source))
+	}
+	for _, c := range rules.Constants {
+		if uses[c.Name] {
+			defs = append(defs, jen.Id(p.Prefix+upperFirst(c.Name)).Op("=").Op(c.Value(p.Context)).Comment(c.Doc))
+		}
 	}
 	f.Commentf("Tunables of %s from %s; the kernels below read them.", p.M.Name, p.SpecName)
 	f.Const().Defs(defs...)

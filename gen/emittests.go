@@ -6,6 +6,7 @@ import (
 	"math"
 
 	"github.com/dave/jennifer/jen"
+	"github.com/thalweg-go/thalweg/rules"
 )
 
 // EmitTests writes the minimizer's own test file: convergence from the
@@ -46,9 +47,9 @@ func EmitTests(w io.Writer, p *Plan) error {
 	// Convergence from start (or the expected status), and expect.x.
 	testName, statusTest, doc := "Test"+name+"Converges", jen.Op("!").Id("r").Dot("Status").Dot("Converged").Call(), "asks for convergence"
 	if e := p.M.Expect; e != nil && e.Status != nil {
-		testName = "Test" + name + "EndsWith" + e.Status.suffix
-		statusTest = jen.Id("r").Dot("Status").Op("!=").Id(name + e.Status.suffix)
-		doc = fmt.Sprintf("asks for the status %q that expect.status names", e.Status.text)
+		testName = "Test" + name + "EndsWith" + e.Status.Suffix
+		statusTest = jen.Id("r").Dot("Status").Op("!=").Id(name + e.Status.Suffix)
+		doc = fmt.Sprintf("asks for the status %q that expect.status names", e.Status.Text)
 	}
 	body := append(setup(),
 		jen.Id("r").Op(":=").Add(call(false)),
@@ -104,7 +105,7 @@ func EmitTests(w io.Writer, p *Plan) error {
 		),
 	)...)
 
-	if p.M.Derivative == "analytic" {
+	if p.Derivative == rules.Analytic {
 		emitGradientCheck(f, p, helper, setup)
 	}
 
@@ -235,13 +236,13 @@ func emitGradientCheck(f *jen.File, p *Plan, helper string, setup func() []jen.C
 			jen.Id("g").Op(":=").Id("gradient").Call(append(recvArg, jen.Id("x"))...),
 			jen.Id("fx").Op(":=").Qual("math", "Abs").Call(jen.Float64().Call(jen.Id("value").Call(append(recvArg, jen.Id("x"))...))),
 			jen.For(jen.Id("i").Op(":=").Range().Id("x")).Block(
-				jen.Id("h").Op(":=").Id(s.Elem).Call(jen.Op(formatFloat(math.Cbrt(roundoff(s.Elem)))).Op("*").Qual("math", "Max").Call(jen.Lit(1.0), jen.Qual("math", "Abs").Call(jen.Float64().Call(jen.Id("x").Index(jen.Id("i")))))),
+				jen.Id("h").Op(":=").Id(s.Elem).Call(jen.Op(formatFloat(math.Cbrt(rules.Roundoff(s.Elem)))).Op("*").Qual("math", "Max").Call(jen.Lit(1.0), jen.Qual("math", "Abs").Call(jen.Float64().Call(jen.Id("x").Index(jen.Id("i")))))),
 				jen.List(jen.Id("up"), jen.Id("down")).Op(":=").List(jen.Id("x"), jen.Id("x")),
 				jen.Id("up").Index(jen.Id("i")).Op("+=").Id("h"),
 				jen.Id("down").Index(jen.Id("i")).Op("-=").Id("h"),
 				jen.Id("approx").Op(":=").Float64().Call(jen.Id("value").Call(append(recvArg, jen.Id("up"))...).Op("-").Id("value").Call(append(recvArg, jen.Id("down"))...)).Op("/").Float64().Call(jen.Id("up").Index(jen.Id("i")).Op("-").Id("down").Index(jen.Id("i"))),
 				jen.Id("exact").Op(":=").Float64().Call(jen.Id("g").Index(jen.Id("i"))),
-				jen.Id("allowed").Op(":=").Op(tol).Op("*").Qual("math", "Max").Call(jen.Lit(1.0), jen.Qual("math", "Abs").Call(jen.Id("exact"))).Op("+").Lit(100).Op("*").Op(formatFloat(roundoff(s.Elem))).Op("*").Id("fx").Op("/").Float64().Call(jen.Id("h")),
+				jen.Id("allowed").Op(":=").Op(tol).Op("*").Qual("math", "Max").Call(jen.Lit(1.0), jen.Qual("math", "Abs").Call(jen.Id("exact"))).Op("+").Lit(100).Op("*").Op(formatFloat(rules.Roundoff(s.Elem))).Op("*").Id("fx").Op("/").Float64().Call(jen.Id("h")),
 				jen.If(jen.Op("!").Parens(jen.Qual("math", "Abs").Call(jen.Id("approx").Op("-").Id("exact")).Op("<=").Id("allowed"))).Block(
 					jen.Id("t").Dot("Errorf").Call(jen.Lit("at %v: gradient component %d is %g, central differences give %g"), jen.Id("x"), jen.Id("i"), jen.Id("exact"), jen.Id("approx")),
 				),

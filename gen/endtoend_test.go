@@ -14,6 +14,7 @@ import (
 	"testing"
 
 	"github.com/thalweg-go/thalweg/internal/targets"
+	"github.com/thalweg-go/thalweg/rules"
 )
 
 // TestEndToEnd builds a throwaway module in a temporary directory whose
@@ -88,7 +89,7 @@ func TestEndToEnd(t *testing.T) {
 		want := map[string]int{"Benchmark": len(plans)}
 		for _, p := range plans {
 			want["Test"] += 3
-			if p.M.Derivative == "analytic" {
+			if p.Derivative == rules.Analytic {
 				want["Test"]++
 			}
 		}
@@ -213,7 +214,7 @@ func e2eCheckFiles(t *testing.T, root string, plans []*Plan, outs []Output) {
 			if p.M.Expect != nil {
 				want = append(want, "want := ")
 			}
-			if p.M.Derivative == "analytic" {
+			if p.Derivative == rules.Analytic {
 				want = append(want, "func Test"+p.M.Name+"GradientMatchesDifferences(t *testing.T)")
 			}
 			if p.M.Instance != "" {
@@ -317,7 +318,7 @@ func e2eCheckCoverage(t *testing.T, plans []*Plan) {
 		}
 		have["objective "+argNames[s.Arg]+" "+s.Elem+" "+kind] = true
 		grad := "-"
-		if m.Derivative == "analytic" {
+		if p.Derivative == rules.Analytic {
 			grad = gradNames[s.Grad]
 			have["gradient "+grad+" "+s.Elem+" "+map[bool]string{false: "func", true: "method"}[s.Receiver != ""]] = true
 		}
@@ -329,24 +330,26 @@ func e2eCheckCoverage(t *testing.T, plans []*Plan) {
 			}
 			have["instance "+kind+" "+inst] = true
 		}
-		have["derivative "+m.Derivative] = true
-		have["direction "+m.Direction] = true
-		rule := m.Rule
-		if m.Interpolate {
-			rule += "+interpolate"
+		have["derivative "+p.Derivative.Name] = true
+		have["direction "+p.Direction.Name] = true
+		rule := p.Rule.Name
+		for _, q := range p.Rule.Params {
+			if q.Kind == rules.Switch && p.Switch(q) {
+				rule += "+" + q.Key
+			}
 		}
 		have["rule "+rule] = true
-		if m.Direction == "lbfgs" && m.Memory != 5 {
-			have["lbfgs memory set"] = true
+		for q := range m.Given {
+			have["set "+q.Path()] = true
 		}
-		if m.Direction == "cg" && m.Rule != "wolfe" && m.Rule != "strong-wolfe" {
-			t.Errorf("%s pairs cg with %s, which does not guarantee convergence", m.Name, m.Rule)
+		if p.Direction.NeedsCurvature && !p.Rule.Curvature {
+			t.Errorf("%s pairs %s with %s, which does not guarantee descent directions", m.Name, p.Direction.Name, p.Rule.Name)
 		}
-		dir := m.Direction
-		if dir == "lbfgs" {
-			dir = fmt.Sprintf("lbfgs(%d)", m.Memory)
+		dir := p.Direction.Name
+		if p.Direction.Reads(rules.Memory) {
+			dir = fmt.Sprintf("%s(%d)", dir, int(p.Value(rules.Memory)))
 		}
-		rows = append(rows, fmt.Sprintf("%-16s %-8s %-7s %-7s %-8s %-10s %-8s %-9s %s", m.Name, argNames[s.Arg], s.Elem, kind, inst, m.Derivative, grad, dir, rule))
+		rows = append(rows, fmt.Sprintf("%-16s %-8s %-7s %-7s %-8s %-10s %-8s %-9s %s", m.Name, argNames[s.Arg], s.Elem, kind, inst, p.Derivative.Name, grad, dir, rule))
 	}
 	t.Logf("%d minimizers:\n%-16s %-8s %-7s %-7s %-8s %-10s %-8s %-9s %s\n%s", len(plans),
 		"name", "form", "elem", "kind", "instance", "derivative", "gradient", "direction", "rule", strings.Join(rows, "\n"))
@@ -366,16 +369,25 @@ func e2eCheckCoverage(t *testing.T, plans []*Plan) {
 		want = append(want, "instance value "+inst, "instance pointer "+inst)
 	}
 	want = append(want, "instance value var*", "instance value func*", "instance pointer var&", "instance pointer func&")
-	for _, d := range []string{"analytic", "forward", "central"} {
-		want = append(want, "derivative "+d)
+	// Every entry of the registry, every switch both ways, and every
+	// parameter set by a spec at least once.
+	for _, e := range rules.Derivative.Entries {
+		want = append(want, "derivative "+e.Name)
 	}
-	for _, d := range []string{"steepest", "bfgs", "lbfgs", "cg"} {
-		want = append(want, "direction "+d)
+	for _, e := range rules.Direction.Entries {
+		want = append(want, "direction "+e.Name)
 	}
-	for _, r := range []string{"fixed", "decrease", "decrease+interpolate", "armijo", "armijo+interpolate", "wolfe", "strong-wolfe"} {
-		want = append(want, "rule "+r)
+	for _, e := range rules.StepRule.Entries {
+		want = append(want, "rule "+e.Name)
+		for _, q := range e.Params {
+			if q.Kind == rules.Switch {
+				want = append(want, "rule "+e.Name+"+"+q.Key)
+			}
+		}
 	}
-	want = append(want, "lbfgs memory set")
+	for _, q := range rules.Params() {
+		want = append(want, "set "+q.Path())
+	}
 	var missing []string
 	for _, w := range want {
 		if !have[w] {
@@ -572,6 +584,13 @@ direction = "bfgs"
 start = 0.0
 [minimizer.step]
 rule = "armijo"
+shrink = 0.6
+decrease = 1e-3
+trials = 60
+[minimizer.stop]
+step = 1e-13
+iterations = 800
+evaluations = 2e4             # a whole number may be written as a float
 [minimizer.expect]
 x = 1.5                       # 3(x − 1.5)² + 2, f′(1.5) = 0, f″ = 6 > 0
 tolerance = 1e-6
@@ -600,6 +619,7 @@ direction = "bfgs"
 start = [-1.2, 1.0]           # Moré, Garbow & Hillstrom 1981, problem 1, standard start
 [minimizer.step]
 rule = "strong-wolfe"
+curvature = 0.5
 [minimizer.stop]
 gradient = 1e-6               # central differences on Rosenbrock err by about h²·f‴/6 ≈ 1e-8
 [minimizer.expect]

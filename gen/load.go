@@ -10,6 +10,7 @@ import (
 	"path/filepath"
 	"strings"
 
+	"github.com/thalweg-go/thalweg/rules"
 	"golang.org/x/tools/go/packages"
 )
 
@@ -250,7 +251,7 @@ func (lp *loadedPackage) resolve(spec *Spec, m *Minimizer, probs *Problems) (Sha
 	if shape.Dim > 0 {
 		checkStackSize(m, shape, ix, probs)
 	}
-	if m.Derivative == "analytic" {
+	if m.Derivative == rules.Analytic {
 		lp.resolveGradient(m, &shape, recvType, at("gradient"), probs)
 	}
 	lp.resolveInstance(m, &shape, recvType, at, ix, probs)
@@ -499,34 +500,22 @@ func signatureText(sig *types.Signature) string {
 const maxStackVariable = 128 << 10
 
 // checkStackSize refuses a minimizer whose largest variable would not fit
-// on the stack, since the generated code would then allocate.
+// on the stack, since the generated code would then allocate: a vector
+// (or the outcome that holds one), or the direction's state.
 func checkStackSize(m *Minimizer, shape Shape, ix *positions, probs *Problems) {
-	size := 8
-	if shape.Elem == "float32" {
-		size = 4
-	}
-	vector := shape.Dim*size + 64 // a vector, or the outcome that holds one
-	state := 0                    // the direction's state
-	what := ""
-	switch m.Direction {
-	case "bfgs":
-		state = shape.Dim*shape.Dim*size + 8
-		what = fmt.Sprintf("direction \"bfgs\" keeps a %d×%d matrix of %s (%d bytes) in one variable", shape.Dim, shape.Dim, shape.Elem, state)
-	case "lbfgs":
-		state = 2*m.Memory*shape.Dim*size + m.Memory*size + 16
-		what = fmt.Sprintf("direction \"lbfgs\" with memory %d keeps %d vectors of %d %s (%d bytes) in one variable", m.Memory, 2*m.Memory, shape.Dim, shape.Elem, state)
-	case "cg":
-		state = 2*shape.Dim*size + 16
-		what = fmt.Sprintf("direction \"cg\" keeps 2 vectors of %d %s (%d bytes) in one variable", shape.Dim, shape.Elem, state)
-	}
-	switch {
-	case vector > maxStackVariable:
+	ctx := resolveContext(m, shape.Elem, shape.Dim)
+	size := ctx.ElemBytes()
+	vector := shape.Dim*size + 64
+	if vector > maxStackVariable {
 		probs.add(ix.value(m.keyPrefix+".objective"), "%d unknowns of %s (%d bytes a vector) exceed the %d bytes Go keeps on the stack: the minimizer would allocate", shape.Dim, shape.Elem, vector, maxStackVariable)
-	case state > maxStackVariable:
-		hint := "use direction \"lbfgs\" or \"cg\""
-		if m.Direction == "lbfgs" {
-			hint = "lower memory or use direction \"cg\""
-		}
-		probs.add(ix.value(m.keyPrefix+".direction"), "%s, above the %d bytes Go keeps on the stack: the minimizer would allocate; %s", what, maxStackVariable, hint)
+		return
+	}
+	if m.Direction.State == nil {
+		return
+	}
+	state, what := m.Direction.State(shape.Dim, size, ctx.Value)
+	if state > maxStackVariable {
+		probs.add(ix.value(m.keyPrefix+".direction"), "direction %q keeps %s %s (%d bytes) in one variable, above the %d bytes Go keeps on the stack: the minimizer would allocate; %s",
+			m.Direction.Name, what, shape.Elem, state, maxStackVariable, m.Direction.SmallerState)
 	}
 }

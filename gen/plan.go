@@ -4,13 +4,14 @@ import (
 	"fmt"
 	"math"
 	"path/filepath"
-	"strconv"
 
 	"github.com/thalweg-go/thalweg/rules"
 )
 
-// Plan is everything needed to write one minimizer: the validated spec
-// entry, the objective's shape, the chosen kernels and the derived bounds.
+// Plan is everything needed to write one minimizer, resolved once: the
+// validated spec entry, the objective's shape, the chosen entries and the
+// final value of every parameter. Emitters read the plan; they never look
+// a name up in the registry again.
 type Plan struct {
 	Spec     *Spec
 	M        *Minimizer
@@ -19,13 +20,15 @@ type Plan struct {
 	Output   string // path of the generated file
 	TestFile string // path of the generated test file
 	Prefix   string // lowerCamel name that prefixes every unexported identifier
-	Cost     int    // objective calls per gradient
-	Stop     StopLimits
+
+	// Context holds the float type, the dimension, the chosen entries and
+	// the parameters' values (given, or their defaults for this plan).
+	*rules.Context
 
 	pkg *loadedPackage
 }
 
-// newPlan fills in what depends on the objective's shape.
+// newPlan resolves a valid entry against its objective's shape.
 func newPlan(spec *Spec, m *Minimizer, shape Shape) *Plan {
 	p := &Plan{Spec: spec, M: m, Shape: shape, Prefix: lowerFirst(m.Name)}
 	p.Output = filepath.Join(spec.PackageDir, m.Output)
@@ -37,82 +40,88 @@ func newPlan(spec *Spec, m *Minimizer, shape Shape) *Plan {
 		rel = filepath.Base(spec.Path)
 	}
 	p.SpecName = filepath.ToSlash(rel)
-	p.Cost = rules.Cost(m.Derivative, shape.Dim)
-	p.Stop = m.Stop
-	if !m.stopSet["gradient"] {
-		p.Stop.Gradient = rules.StopDefault(rules.StopGradient, shape.Elem, m.Derivative)
-	}
-	if !m.stopSet["step"] {
-		p.Stop.Step = rules.StopDefault(rules.StopStep, shape.Elem, m.Derivative)
-	}
+	p.Context = resolveContext(m, shape.Elem, shape.Dim)
 	return p
 }
+
+// resolveContext fixes every parameter's value: the spec's, else the
+// default for the chosen entries, float type and dimension.
+func resolveContext(m *Minimizer, elem string, dim int) *rules.Context {
+	c := &rules.Context{Elem: elem, Dim: dim, Derivative: m.Derivative, Direction: m.Direction, Rule: m.Rule}
+	values := map[*rules.Param]float64{}
+	c.Value = func(p *rules.Param) float64 {
+		if v, ok := m.Given[p]; ok {
+			return v
+		}
+		if v, ok := values[p]; ok {
+			return v
+		}
+		v := c.DefaultValue(p)
+		values[p] = v
+		return v
+	}
+	return c
+}
+
+// GradientCalls is the objective calls one gradient costs.
+func (p *Plan) GradientCalls() int { return p.Derivative.GradientCalls(p.Dim) }
+
+// Switch reads a true/false parameter.
+func (p *Plan) Switch(q *rules.Param) bool { return p.Value(q) != 0 }
 
 // WorstCase is the most objective calls one run can make: the evaluation
 // cap, or the iteration bound when that is smaller.
 func (p *Plan) WorstCase() (calls int, byIterations int) {
-	perIteration := p.M.Trials + p.Cost // backtracking: trials, then one gradient
-	switch p.M.Rule {
-	case "fixed":
-		perIteration = 1 + p.Cost
-	case "wolfe", "strong-wolfe":
-		perIteration = p.M.Trials * (1 + p.Cost) // a gradient at every trial at most
-	}
-	bound := float64(1+p.Cost) + float64(p.Stop.Iterations)*float64(perIteration)
+	perIteration := p.Rule.IterationCalls(int(p.Value(rules.Trials)), p.GradientCalls())
+	bound := float64(1+p.GradientCalls()) + p.Value(rules.StopIterations)*float64(perIteration)
 	byIterations = math.MaxInt
 	if bound < math.MaxInt32 {
 		byIterations = int(bound)
 	}
-	return min(p.Stop.Evaluations, byIterations), byIterations
+	return min(int(p.Value(rules.StopEvaluations)), byIterations), byIterations
 }
 
-// kernelChoice maps the plan onto the templates' dispatchers and stand-ins.
+// kernelChoice maps the plan onto the templates' dispatchers and stand-ins:
+// the alternatives the chosen entries and switches pick, and the names the
+// glue emits for the stand-ins it provides.
 func (p *Plan) kernelChoice() kernelChoice {
-	direction, _ := rules.Lookup(rules.Directions(), p.M.Direction)
-	rule, _ := rules.Lookup(rules.StepRules(), p.M.Rule)
-	source, _ := rules.Lookup(rules.Derivatives(), p.M.Derivative)
-	pick := map[string]string{
-		"derivative":     source.Kernel,
-		"direction":      direction.Kernel,
-		"lineSearch":     rule.Kernel,
-		"curvatureMet":   "weakCurvature",
-		"backtrackTrial": "shrunkTrial",
-		"acceptable":     "armijoDecrease",
+	pick := map[string]string{}
+	for _, e := range p.Entries() {
+		for dispatcher, alternative := range e.Picks {
+			pick[dispatcher] = alternative
+		}
 	}
-	if p.M.Rule == "decrease" || p.M.Rule == "armijo" {
-		// The backtracking rules share backtrackSearch and differ in its
-		// acceptance test, which is what their table entries name.
-		pick["lineSearch"], pick["acceptable"] = "backtrackSearch", rule.Kernel
-	}
-	if p.M.Rule == "strong-wolfe" {
-		pick["curvatureMet"] = "strongCurvature"
-	}
-	if p.M.Interpolate {
-		pick["backtrackTrial"] = "interpolatedTrial"
+	for _, q := range rules.Params() {
+		picks := q.Off
+		if p.Value(q) != 0 {
+			picks = q.On
+		}
+		if p.Reads(q) {
+			for dispatcher, alternative := range picks {
+				pick[dispatcher] = alternative
+			}
+		}
 	}
 	provided := map[string]string{
 		"status": p.M.Name + "Status",
 		"limits": p.M.Name + "Limits",
 	}
-	for _, s := range statuses {
-		provided[s.template] = p.M.Name + s.suffix
+	for _, s := range rules.Statuses {
+		provided[s.StandIn] = p.M.Name + s.Suffix
 	}
-	for _, t := range tunables {
-		provided[t.template] = p.Prefix + upperFirst(t.template)
+	for _, q := range rules.Params() {
+		if q.Const != "" {
+			provided[q.Const] = p.Prefix + upperFirst(q.Const)
+		}
+	}
+	for _, c := range rules.Constants {
+		provided[c.Name] = p.Prefix + upperFirst(c.Name)
 	}
 	return kernelChoice{shape: p.Shape, pick: pick, provided: provided, prefix: p.Prefix}
 }
 
 // formatFloat renders v as a Go float literal that reads back exactly.
-func formatFloat(v float64) string {
-	s := strconv.FormatFloat(v, 'g', -1, 64)
-	for _, c := range s {
-		if c == '.' || c == 'e' || c == 'n' || c == 'I' {
-			return s
-		}
-	}
-	return s + ".0"
-}
+func formatFloat(v float64) string { return rules.FormatFloat(v) }
 
 func (p *Plan) describe() string {
 	return fmt.Sprintf("%s (%s)", p.M.Name, p.Spec.Path)

@@ -32,7 +32,7 @@ func SelectPlan(specPath, name string) (*Plan, error) {
 
 // WriteTraceTable prints one row per iteration and the outcome.
 func WriteTraceTable(w io.Writer, p *Plan, res *TraceResult) error {
-	fmt.Fprintf(w, "%s: direction %s, step rule %s, derivative %s, from start %s\n\n", p.M.Name, p.M.Direction, p.M.Rule, p.M.Derivative, formatNumbers(p.M.Start))
+	fmt.Fprintf(w, "%s: direction %s, step rule %s, derivative %s, from start %s\n\n", p.M.Name, p.Direction.Name, p.Rule.Name, p.Derivative.Name, formatNumbers(p.M.Start))
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', tabwriter.AlignRight)
 	fmt.Fprintln(tw, "iteration\tobjective calls\tf\tlargest |gradient|\taccepted step\t")
 	for _, r := range res.Rows {

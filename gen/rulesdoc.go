@@ -3,6 +3,8 @@ package gen
 import (
 	"fmt"
 	"io"
+	"sort"
+	"strings"
 
 	"github.com/thalweg-go/thalweg/rules"
 )
@@ -10,16 +12,24 @@ import (
 // Version is thalweg's version.
 const Version = "0.1.0"
 
-// WriteRules renders the rules tables: every direction, step rule and
-// derivative source with its math, parameters and references.
+// WriteRules renders the registry: every choice with its entries' math,
+// parameters, own defaults and references, then the stop limits.
 func WriteRules(w io.Writer) {
-	section := func(title, key string, list []rules.Entry, def string) {
-		fmt.Fprintf(w, "%s (spec key %s, default %q)\n\n", title, key, def)
-		for _, e := range list {
+	for _, c := range rules.Choices() {
+		fmt.Fprintf(w, "%s: %s (default %q)\n\n", c.Path(), c.Doc, c.Default)
+		for _, e := range c.Entries {
 			fmt.Fprintf(w, "  %s — %s\n", e.Name, e.Summary)
 			fmt.Fprintf(w, "      %s\n", e.Math)
 			for _, p := range e.Params {
-				fmt.Fprintf(w, "      %-12s default %-8v range %-12s %s\n", p.Key, paramDefault(p), paramRange(p), p.Doc)
+				writeParam(w, p)
+			}
+			var own []string
+			for p, v := range e.Defaults {
+				own = append(own, fmt.Sprintf("%s %s", p.Path(), rules.FormatValue(p, v)))
+			}
+			sort.Strings(own)
+			if len(own) > 0 {
+				fmt.Fprintf(w, "      own defaults: %s\n", strings.Join(own, ", "))
 			}
 			for _, r := range e.References {
 				fmt.Fprintf(w, "      ref: %s\n", r)
@@ -27,27 +37,20 @@ func WriteRules(w io.Writer) {
 			fmt.Fprintln(w)
 		}
 	}
-	section("Directions", "direction", rules.Directions(), rules.DefaultDirection)
-	section("Step rules", "step.rule", rules.StepRules(), rules.DefaultStepRule)
-	section("Derivative sources", "derivative", rules.Derivatives(), rules.DefaultDerivative)
-	fmt.Fprintln(w, "Stop limits ([minimizer.stop])")
+	fmt.Fprintln(w, "stop: limits every minimizer reads ([minimizer.stop])")
 	fmt.Fprintln(w)
-	for _, p := range []rules.Param{rules.StopGradient, rules.StopStep, rules.StopIterations, rules.StopEvaluations} {
-		fmt.Fprintf(w, "  %-12s default %-8v range %-12s %s\n", p.Key, p.Default, p.Range(), p.Doc)
+	for _, p := range rules.Params() {
+		if p.Table == "stop" {
+			writeParam(w, p)
+		}
 	}
 }
 
-// paramRange shows a switch as its two values.
-func paramRange(p rules.Param) string {
-	if p.Key == "interpolate" {
-		return "true|false"
+// writeParam prints one parameter's line: key, default, range, doc.
+func writeParam(w io.Writer, p *rules.Param) {
+	def := "derived"
+	if p.DefaultFor == nil {
+		def = rules.FormatValue(p, p.Default)
 	}
-	return p.Range()
-}
-
-func paramDefault(p rules.Param) any {
-	if p.Key == "interpolate" {
-		return p.Default != 0
-	}
-	return p.Default
+	fmt.Fprintf(w, "      %-12s default %-8s range %-12s %s\n", p.Key, def, p.Range(), p.Doc)
 }

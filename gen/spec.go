@@ -1,117 +1,60 @@
 package gen
 
 import (
-	"bytes"
 	"errors"
 	"fmt"
 	"go/token"
 	"math"
 	"os"
 	"path/filepath"
-	"regexp"
+	"sort"
 	"strings"
+	"time"
 
 	toml "github.com/pelletier/go-toml/v2"
 
 	"github.com/thalweg-go/thalweg/rules"
 )
 
-// specFile is the TOML document as decoded; pointers tell a key that was
-// left out from one set to zero.
-type specFile struct {
-	Package   *string         `toml:"package"`
-	Minimizer []minimizerSpec `toml:"minimizer"`
-}
-
-type minimizerSpec struct {
-	Name       string      `toml:"name"`
-	Objective  string      `toml:"objective"`
-	Derivative *string     `toml:"derivative"`
-	Gradient   *string     `toml:"gradient"`
-	Direction  *string     `toml:"direction"`
-	Memory     *int64      `toml:"memory"`
-	Start      any         `toml:"start"`
-	Dim        *int64      `toml:"dim"`
-	Instance   *string     `toml:"instance"`
-	Output     *string     `toml:"output"`
-	Step       stepSpec    `toml:"step"`
-	Stop       stopSpec    `toml:"stop"`
-	Bounds     *boundsSpec `toml:"bounds"`
-	Expect     *expectSpec `toml:"expect"`
-}
-
-type stepSpec struct {
-	Rule        *string  `toml:"rule"`
-	Initial     *float64 `toml:"initial"`
-	Shrink      *float64 `toml:"shrink"`
-	Decrease    *float64 `toml:"decrease"`
-	Trials      *int64   `toml:"trials"`
-	Curvature   *float64 `toml:"curvature"`
-	Interpolate *bool    `toml:"interpolate"`
-}
-
-type stopSpec struct {
-	Gradient    *float64 `toml:"gradient"`
-	Step        *float64 `toml:"step"`
-	Iterations  *int64   `toml:"iterations"`
-	Evaluations *int64   `toml:"evaluations"`
-}
-
-type boundsSpec struct {
-	Lower any `toml:"lower"`
-	Upper any `toml:"upper"`
-}
-
-type expectSpec struct {
-	X         any      `toml:"x"`
-	Tolerance *float64 `toml:"tolerance"`
-	Status    *string  `toml:"status"`
-}
-
 // Spec is one parsed spec file: where it is, which package directory it
-// names and its minimizers, each with every default filled in.
+// names and its minimizers.
 type Spec struct {
 	Path       string // as the user named it
 	PackageDir string // the Go package directory
 	Minimizers []*Minimizer
 	pos        *positions
+	problems   int // problems of the file as a whole, outside any minimizer
 }
 
-// Minimizer is one [[minimizer]] entry after validation. Fields that need
-// the objective's shape to check (start, dim, expect) are kept raw.
+// Minimizer is one [[minimizer]] entry after validation: the structural
+// keys, the chosen entries and the parameter values the spec sets. Fields
+// that need the objective's shape to check (start, dim, expect.x) are kept
+// raw until the objective is resolved.
 type Minimizer struct {
-	Index       int
-	Name        string
-	Objective   string
-	Derivative  string
-	Gradient    string
-	Direction   string
-	Memory      int
-	Dim         int // 0 when the spec leaves it out
-	Instance    string
-	Output      string // file name beside the objective
-	Rule        string
-	Initial     float64
-	Shrink      float64
-	Decrease    float64
-	Trials      int
-	Curvature   float64
-	Interpolate bool
-	Stop        StopLimits
-	stopSet     map[string]bool // stop keys given in the spec; the rest default by element type
-	Expect      *Expect
-	Start       []float64 // set once the objective's shape is known
+	Index     int
+	Name      string
+	Objective string
+	Gradient  string
+	Instance  string
+	Output    string // file name beside the objective
+	Dim       int    // 0 when the spec leaves it out
+
+	// The chosen entries; nil when the spec names an unknown one.
+	Derivative, Direction, Rule *rules.Entry
+	// Given holds the parameter values the spec sets.
+	Given map[*rules.Param]float64
+
+	Expect *Expect
+	Start  []float64 // set once the objective's shape is known
 
 	start     any
 	expectX   any
 	keyPrefix string // "minimizer.N"
+	problems  int    // problems found in this entry
 }
 
-// StopLimits are a minimizer's default stop limits.
-type StopLimits struct {
-	Gradient, Step          float64
-	Iterations, Evaluations int
-}
+// Valid reports whether the entry had no problem of its own.
+func (m *Minimizer) Valid() bool { return m.problems == 0 }
 
 // Expect is what the generated test asserts about the run from start: the
 // minimizer X (when given) within Tolerance, and the final status (when
@@ -119,11 +62,27 @@ type StopLimits struct {
 type Expect struct {
 	X         []float64
 	Tolerance float64
-	Status    *statusInfo
+	Status    *rules.Status
+}
+
+// structuralKeys are the keys of a [[minimizer]] table that the registry
+// does not describe: they name things in the user's package and shape the
+// generated code, and spec.go validates each itself.
+var structuralKeys = []string{"name", "objective", "gradient", "start", "dim", "instance", "output"}
+
+// subtables are the tables a [[minimizer]] may hold, with their fixed
+// keys; the registry adds the choices and parameters of "step" and "stop".
+var subtables = map[string][]string{
+	"step":   nil,
+	"stop":   nil,
+	"bounds": {"lower", "upper"},
+	"expect": {"x", "tolerance", "status"},
 }
 
 // ParseSpec reads and validates a spec file. Errors carry the spec's
-// positions; all errors of the file are reported together.
+// positions; all errors of the file are reported together. When the file
+// decodes, the spec is returned beside its problems, with each
+// minimizer's Valid saying whether it had any of its own.
 func ParseSpec(path string) (*Spec, error) {
 	data, err := os.ReadFile(path)
 	if err != nil {
@@ -133,311 +92,499 @@ func ParseSpec(path string) (*Spec, error) {
 }
 
 func parseSpecData(path string, data []byte) (*Spec, error) {
-	var probs Problems
-	var doc specFile
-	ix := indexPositions(path, data)
-	dec := toml.NewDecoder(bytes.NewReader(data))
-	dec.DisallowUnknownFields()
-	if err := dec.Decode(&doc); err != nil {
-		var strict *toml.StrictMissingError
+	var doc map[string]any
+	if err := toml.Unmarshal(data, &doc); err != nil {
 		var decode *toml.DecodeError
-		switch {
-		case errors.As(err, &strict):
-			for _, e := range strict.Errors {
-				line, col := e.Position()
-				pos := Pos{path, line, col}
-				key := strings.Join(e.Key(), ".")
-				if ix != nil {
-					if full, ok := ix.pathAt(pos); ok {
-						key = full
-					}
-				}
-				probs.add(pos, "unknown key %q", key)
-			}
-		case errors.As(err, &decode):
+		if errors.As(err, &decode) {
 			line, col := decode.Position()
-			return nil, Problems{{Pos{path, line, col}, decodeMessage(decode)}}.Err()
-		default:
-			return nil, Problems{{Pos{path, 1, 1}, err.Error()}}.Err()
+			return nil, Problems{{Pos{path, line, col}, strings.TrimPrefix(decode.Error(), "toml: ")}}.Err()
 		}
+		return nil, Problems{{Pos{path, 1, 1}, err.Error()}}.Err()
 	}
+	ix := indexPositions(path, data)
 	if ix == nil { // cannot happen after a successful decode; keep errors positioned anyway
 		ix = &positions{file: path, keys: map[string]Pos{}, values: map[string]Pos{}, tables: map[string]Pos{}}
 	}
 	if pos, ok := ix.tables["minimizer"]; ok {
 		return nil, Problems{{pos, "write [[minimizer]], an array of tables, not [minimizer]"}}.Err()
 	}
-	spec := &Spec{Path: path, pos: ix}
-	dir := filepath.Dir(path)
-	spec.PackageDir = dir
-	if doc.Package != nil {
-		pkg := *doc.Package
+	r := &specReader{ix: ix}
+	r.unknownKeys("", doc, []string{"package", "minimizer"})
+	spec := &Spec{Path: path, pos: ix, PackageDir: filepath.Dir(path)}
+	if pkg, ok := r.text(doc, "", "package"); ok {
 		if pkg == "" || filepath.IsAbs(pkg) {
-			probs.add(ix.value("package"), "package must be a directory relative to the spec file, got %q", pkg)
+			r.add(ix.value("package"), "package must be a directory relative to the spec file, got %q", pkg)
 		} else {
-			spec.PackageDir = filepath.Join(dir, filepath.FromSlash(pkg))
+			spec.PackageDir = filepath.Join(filepath.Dir(path), filepath.FromSlash(pkg))
 		}
 	}
-	if len(doc.Minimizer) == 0 {
-		probs.add(Pos{path, 1, 1}, "no [[minimizer]] table: a spec names at least one minimizer")
+	entries, _ := doc["minimizer"].([]any)
+	if len(entries) == 0 {
+		r.add(Pos{path, 1, 1}, "no [[minimizer]] table: a spec names at least one minimizer")
 	}
 	names := map[string]bool{}
 	outputs := map[string]string{}
-	for i := range doc.Minimizer {
-		m := validateMinimizer(&doc.Minimizer[i], i, ix, &probs)
+	for i, e := range entries {
+		table, ok := e.(map[string]any)
+		if !ok {
+			r.add(ix.value(fmt.Sprintf("minimizer.%d", i)), "minimizer must be a table, not a TOML %s", tomlType(e))
+			continue
+		}
+		before := len(r.probs)
+		m := r.minimizer(table, i)
 		if m.Name != "" {
 			if names[m.Name] {
-				probs.add(ix.value(m.keyPrefix+".name"), "minimizer %s is named twice in this spec", m.Name)
+				r.add(ix.value(m.keyPrefix+".name"), "minimizer %s is named twice in this spec", m.Name)
 			}
 			names[m.Name] = true
+			if other, ok := outputs[m.Output]; ok {
+				r.add(ix.value(m.keyPrefix+".output"), "minimizers %s and %s would both write %s", other, m.Name, m.Output)
+			}
+			outputs[m.Output] = m.Name
 		}
-		if other, ok := outputs[m.Output]; ok && m.Output != "" {
-			probs.add(ix.value(m.keyPrefix+".output"), "minimizers %s and %s would both write %s", other, m.Name, m.Output)
-		}
-		outputs[m.Output] = m.Name
+		m.problems = len(r.probs) - before
 		spec.Minimizers = append(spec.Minimizers, m)
 	}
-	if err := probs.Err(); err != nil {
-		return nil, err
+	inMinimizers := 0
+	for _, m := range spec.Minimizers {
+		inMinimizers += m.problems
 	}
-	return spec, nil
+	spec.problems = len(r.probs) - inMinimizers
+	return spec, r.probs.Err()
 }
 
-var decodeTypePattern = regexp.MustCompile(`cannot decode TOML (\w+) into .* of type (\S+)$`)
-
-// decodeMessage rewrites go-toml's type-mismatch message, which names
-// thalweg's Go fields, in the spec's terms.
-func decodeMessage(e *toml.DecodeError) string {
-	msg := strings.TrimPrefix(e.Error(), "toml: ")
-	m := decodeTypePattern.FindStringSubmatch(msg)
-	if m == nil || len(e.Key()) == 0 {
-		return msg
-	}
-	want := map[string]string{"float64": "a number", "int64": "a whole number", "string": "a string", "bool": "true or false"}[m[2]]
-	if want == "" {
-		want = "a " + m[2]
-	}
-	key := e.Key()
-	if key[0] == "minimizer" {
-		key = key[1:]
-	}
-	return fmt.Sprintf("%s must be %s, not a TOML %s", strings.Join(key, "."), want, m[1])
+// specReader reads the decoded document, reporting every problem at its
+// position.
+type specReader struct {
+	ix    *positions
+	probs Problems
 }
 
-// validateMinimizer checks everything about one entry that does not need
-// the objective's shape, and fills in defaults from the rules tables.
-func validateMinimizer(ms *minimizerSpec, i int, ix *positions, probs *Problems) *Minimizer {
+func (r *specReader) add(pos Pos, format string, args ...any) {
+	r.probs.add(pos, format, args...)
+}
+
+// tomlType names a decoded value's TOML type.
+func tomlType(v any) string {
+	switch v.(type) {
+	case string:
+		return "string"
+	case int64:
+		return "integer"
+	case float64:
+		return "float"
+	case bool:
+		return "boolean"
+	case []any:
+		return "array"
+	case map[string]any:
+		return "table"
+	case time.Time, toml.LocalDate, toml.LocalDateTime, toml.LocalTime:
+		return "date or time"
+	}
+	return fmt.Sprintf("%T", v)
+}
+
+// unknownKeys reports every key of table (at path, with array indexes)
+// that is not in known, suggesting the closest known key.
+func (r *specReader) unknownKeys(path string, table map[string]any, known []string) {
+	keys := make([]string, 0, len(table))
+	for k := range table {
+		keys = append(keys, k)
+	}
+	sort.Strings(keys)
+	for _, k := range keys {
+		if contains(known, k) {
+			continue
+		}
+		full := joinPath(path, k)
+		msg := fmt.Sprintf("unknown key %q", withoutIndexes(full))
+		if near, ok := closest(k, known); ok {
+			msg += fmt.Sprintf("; did you mean %q?", near)
+		}
+		r.add(r.ix.key(full), "%s", msg)
+	}
+}
+
+func joinPath(path, key string) string {
+	switch {
+	case path == "":
+		return key
+	case key == "":
+		return path
+	}
+	return path + "." + key
+}
+
+// withoutIndexes drops array indexes from a key path: minimizer.0.step →
+// minimizer.step.
+func withoutIndexes(path string) string {
+	var parts []string
+	for _, part := range strings.Split(path, ".") {
+		if strings.Trim(part, "0123456789") != "" {
+			parts = append(parts, part)
+		}
+	}
+	return strings.Join(parts, ".")
+}
+
+// specKey is how messages name a key of a minimizer: step.shrink.
+func specKey(path string) string {
+	return strings.TrimPrefix(withoutIndexes(path), "minimizer.")
+}
+
+// wrongType reports a value of the wrong TOML type.
+func (r *specReader) wrongType(path, want string, v any) {
+	r.add(r.ix.value(path), "%s must be %s, not a TOML %s", specKey(path), want, tomlType(v))
+}
+
+// text reads an optional string.
+func (r *specReader) text(table map[string]any, path, key string) (string, bool) {
+	v, ok := table[key]
+	if !ok {
+		return "", false
+	}
+	s, ok := v.(string)
+	if !ok {
+		r.wrongType(joinPath(path, key), "a string", v)
+		return "", false
+	}
+	return s, true
+}
+
+// subtable reads an optional table.
+func (r *specReader) subtable(table map[string]any, path, key string) (map[string]any, bool) {
+	v, ok := table[key]
+	if !ok {
+		return nil, false
+	}
+	t, ok := v.(map[string]any)
+	if !ok {
+		r.wrongType(joinPath(path, key), "a table", v)
+		return nil, false
+	}
+	return t, true
+}
+
+// minimizer validates one [[minimizer]] table: everything that does not
+// need the objective's shape.
+func (r *specReader) minimizer(table map[string]any, i int) *Minimizer {
 	key := fmt.Sprintf("minimizer.%d", i)
-	at := func(k string) Pos { return ix.value(key + "." + k) }
-	m := &Minimizer{Index: i, keyPrefix: key, Name: ms.Name, Objective: ms.Objective, start: ms.Start, stopSet: map[string]bool{}}
+	at := func(k string) Pos { return r.ix.value(key + "." + k) }
+	m := &Minimizer{Index: i, keyPrefix: key, start: table["start"], Given: map[*rules.Param]float64{}}
 
-	switch {
-	case ms.Name == "" && ix.keys[key+".name"] != (Pos{}):
-		probs.add(at("name"), "name must not be empty: it is the exported Go name of the minimizer")
-	case ms.Name == "":
-		probs.add(ix.key(key), "name is required: the exported Go name of the minimizer")
-	case !token.IsIdentifier(ms.Name) || !token.IsExported(ms.Name):
-		probs.add(at("name"), "name %q is not an exported Go identifier", ms.Name)
+	// The keys each table may hold: structural ones, then the registry's.
+	tables := map[string]map[string]any{"": table}
+	known := map[string][]string{"": append([]string(nil), structuralKeys...)}
+	for sub, keys := range subtables {
+		known[""] = append(known[""], sub)
+		known[sub] = append(known[sub], keys...)
+		if t, ok := r.subtable(table, key, sub); ok {
+			tables[sub] = t
+		}
 	}
-	switch {
-	case ms.Objective == "" && ix.keys[key+".objective"] != (Pos{}):
-		probs.add(at("objective"), "objective must not be empty: \"Func\" or \"Type.Method\" in the package")
-	case ms.Objective == "":
-		probs.add(ix.key(key), "objective is required: \"Func\" or \"Type.Method\" in the package")
-	case !validReference(ms.Objective):
-		probs.add(at("objective"), "objective %q is not \"Func\" or \"Type.Method\"", ms.Objective)
+	for _, c := range rules.Choices() {
+		known[c.Table] = append(known[c.Table], c.Key)
+	}
+	for _, p := range rules.Params() {
+		known[p.Table] = append(known[p.Table], p.Key)
+	}
+	for _, sub := range []string{"", "step", "stop", "bounds", "expect"} {
+		if t, ok := tables[sub]; ok {
+			r.unknownKeys(joinPath(key, sub), t, known[sub])
+		}
 	}
 
-	m.Derivative = choose(ms.Derivative, rules.DefaultDerivative, rules.Derivatives(), "derivative", at, probs)
-	m.Direction = choose(ms.Direction, rules.DefaultDirection, rules.Directions(), "direction", at, probs)
-	m.Rule = choose(ms.Step.Rule, rules.DefaultStepRule, rules.StepRules(), "step.rule", at, probs)
-
-	if ms.Gradient != nil {
-		m.Gradient = *ms.Gradient
-	}
+	name, named := r.text(table, key, "name")
+	m.Name = name
 	switch {
-	case m.Derivative == "":
+	case named && name == "":
+		r.add(at("name"), "name must not be empty: it is the exported Go name of the minimizer")
+	case !named && table["name"] == nil:
+		r.add(r.ix.key(key), "name is required: the exported Go name of the minimizer")
+	case named && (!token.IsIdentifier(name) || !token.IsExported(name)):
+		r.add(at("name"), "name %q is not an exported Go identifier", name)
+		m.Name = ""
+	}
+	objective, given := r.text(table, key, "objective")
+	m.Objective = objective
+	switch {
+	case given && objective == "":
+		r.add(at("objective"), "objective must not be empty: \"Func\" or \"Type.Method\" in the package")
+	case !given && table["objective"] == nil:
+		r.add(r.ix.key(key), "objective is required: \"Func\" or \"Type.Method\" in the package")
+	case given && !validReference(objective):
+		r.add(at("objective"), "objective %q is not \"Func\" or \"Type.Method\"", objective)
+	}
+
+	// The choices, then the parameters they read.
+	chosen := map[*rules.Choice]*rules.Entry{}
+	for _, c := range rules.Choices() {
+		e := c.DefaultEntry()
+		path := joinPath(joinPath(key, c.Table), c.Key)
+		if v, ok := r.text(tables[c.Table], joinPath(key, c.Table), c.Key); ok {
+			var found bool
+			if e, found = c.Lookup(v); !found {
+				msg := fmt.Sprintf("%s %q is not one of %s", c.Path(), v, quoteJoin(c.Names(), ", "))
+				if near, ok := closest(v, c.Names()); ok {
+					msg += fmt.Sprintf("; did you mean %q?", near)
+				}
+				r.add(r.ix.value(path), "%s", msg)
+			}
+		} else if _, present := tables[c.Table][c.Key]; present {
+			e = nil // of the wrong type, already reported
+		}
+		chosen[c] = e
+	}
+	m.Derivative, m.Direction, m.Rule = chosen[rules.Derivative], chosen[rules.Direction], chosen[rules.StepRule]
+	r.params(m, tables, key)
+
+	gradient, hasGradient := r.text(table, key, "gradient")
+	m.Gradient = gradient
+	switch {
+	case m.Derivative == nil:
 		// unknown derivative, already reported
-	case m.Derivative == "analytic" && ms.Gradient == nil:
-		probs.add(at("derivative"), "derivative = \"analytic\" needs a gradient key naming the gradient function")
-	case m.Derivative != "analytic" && ms.Gradient != nil:
-		probs.add(ix.key(key+".gradient"), "gradient is only used with derivative = \"analytic\" (derivative is %q)", m.Derivative)
-	case ms.Gradient != nil && !validReference(m.Gradient):
-		probs.add(at("gradient"), "gradient %q is not \"Func\" or \"Type.Method\"", m.Gradient)
+	case m.Derivative == rules.Analytic && !hasGradient && table["gradient"] == nil:
+		r.add(at("derivative"), "derivative = \"analytic\" needs a gradient key naming the gradient function")
+	case m.Derivative != rules.Analytic && table["gradient"] != nil:
+		r.add(r.ix.key(key+".gradient"), "gradient is only used with derivative = \"analytic\" (derivative is %q)", m.Derivative.Name)
+	case hasGradient && !validReference(gradient):
+		r.add(at("gradient"), "gradient %q is not \"Func\" or \"Type.Method\"", gradient)
 	}
-
-	m.Memory = int(rules.Memory.Default)
-	if ms.Memory != nil {
-		if m.Direction == "" {
-			// unknown direction, already reported
-		} else if m.Direction != "lbfgs" {
-			probs.add(ix.key(key+".memory"), "memory is only used with direction = \"lbfgs\" (direction is %q)", m.Direction)
-		} else if checkParam(rules.Memory, float64(*ms.Memory), key+".memory", ix, probs) {
-			m.Memory = int(*ms.Memory)
+	if v, ok := table["dim"]; ok {
+		switch n, isInt := v.(int64); {
+		case !isInt:
+			r.wrongType(key+".dim", "a whole number", v)
+		case n < 1 || n > 1<<16:
+			r.add(at("dim"), "dim must be between 1 and 65536, got %d", n)
+		default:
+			m.Dim = int(n)
 		}
 	}
-	if ms.Dim != nil {
-		if *ms.Dim < 1 || *ms.Dim > 1<<16 {
-			probs.add(at("dim"), "dim must be between 1 and 65536, got %d", *ms.Dim)
-		} else {
-			m.Dim = int(*ms.Dim)
+	if inst, ok := r.text(table, key, "instance"); ok {
+		m.Instance = inst
+		if !validReference(inst) || strings.Contains(inst, ".") {
+			r.add(at("instance"), "instance %q is not the name of a package-level variable or function", inst)
 		}
 	}
-	if ms.Instance != nil {
-		m.Instance = *ms.Instance
-		if !validReference(m.Instance) || strings.Contains(m.Instance, ".") {
-			probs.add(at("instance"), "instance %q is not the name of a package-level variable or function", m.Instance)
-		}
+	r.output(m, table, key)
+	if _, ok := tables["bounds"]; ok {
+		r.add(r.ix.key(key+".bounds"), "[minimizer.bounds] is not supported yet")
 	}
-	m.Output = snakeCase(ms.Name) + "_min.go"
-	if ms.Output != nil {
-		m.Output = *ms.Output
-		switch {
-		case m.Output != filepath.Base(m.Output) || strings.ContainsAny(m.Output, `/\`):
-			probs.add(at("output"), "output %q must be a file name in the objective's package directory, without folders", m.Output)
-		case !strings.HasSuffix(m.Output, ".go") || strings.HasSuffix(m.Output, "_test.go"):
-			probs.add(at("output"), "output %q must end in .go and not in _test.go", m.Output)
-		case strings.HasPrefix(m.Output, "_") || strings.HasPrefix(m.Output, "."):
-			probs.add(at("output"), "output %q starts with %q: the go tool ignores such files", m.Output, m.Output[:1])
-		case buildConstrained(m.Output):
-			probs.add(at("output"), "output %q ends in a GOOS or GOARCH suffix: the go tool would build it only there", m.Output)
-		}
+	if expect, ok := tables["expect"]; ok {
+		r.expect(m, expect, key)
 	}
-
-	m.Stop, m.Trials = validateStep(ms, m, key, ix, probs)
-	if ms.Bounds != nil {
-		probs.add(ix.key(key+".bounds"), "[minimizer.bounds] is not supported yet")
-	}
-	if ms.Expect != nil {
-		m.expectX = ms.Expect.X
-		m.Expect = &Expect{Tolerance: 1e-6}
-		if ms.Expect.X == nil && ms.Expect.Status == nil {
-			probs.add(ix.key(key+".expect"), "expect needs x, the expected minimizer, or status, the expected end")
-		}
-		if ms.Expect.Status != nil {
-			for i := range statuses {
-				if statuses[i].text == *ms.Expect.Status {
-					m.Expect.Status = &statuses[i]
-				}
-			}
-			if m.Expect.Status == nil {
-				var texts []string
-				for _, s := range statuses {
-					texts = append(texts, s.text)
-				}
-				probs.add(at("expect.status"), "expect.status %q is not one of %s", *ms.Expect.Status, quoteList(texts))
-			}
-		}
-		if ms.Expect.Tolerance != nil {
-			t := *ms.Expect.Tolerance
-			if !(t > 0) || math.IsInf(t, 1) {
-				probs.add(at("expect.tolerance"), "expect.tolerance must be a positive number, got %v", t)
-			}
-			m.Expect.Tolerance = t
-		}
-	}
-	if ms.Start == nil {
-		probs.add(ix.key(key), "start is required: a typical starting point")
+	if table["start"] == nil {
+		r.add(r.ix.key(key), "start is required: a typical starting point")
 	}
 	return m
 }
 
-// validateStep checks [minimizer.step] and [minimizer.stop] against the
-// parameters the chosen rule reads.
-func validateStep(ms *minimizerSpec, m *Minimizer, key string, ix *positions, probs *Problems) (StopLimits, int) {
-	rule, _ := rules.Lookup(rules.StepRules(), m.Rule)
-	param := func(p rules.Param, given *float64, out *float64) {
-		*out = p.Default
-		if given == nil {
-			return
-		}
-		k := key + ".step." + p.Key
-		if _, used := rule.Param(p.Key); !used && rule.Name != "" {
-			probs.add(ix.key(k), "step.%s is not used by rule %q", p.Key, rule.Name)
-			return
-		}
-		if checkParam(p, *given, k, ix, probs) {
-			*out = *given
-		}
+// output checks the output file name, or derives it from the name.
+func (r *specReader) output(m *Minimizer, table map[string]any, key string) {
+	if m.Name != "" {
+		m.Output = snakeCase(m.Name) + "_min.go"
 	}
-	param(rules.Initial, ms.Step.Initial, &m.Initial)
-	param(rules.Shrink, ms.Step.Shrink, &m.Shrink)
-	param(rules.Decrease, ms.Step.Decrease, &m.Decrease)
-	c2 := rules.Curvature
-	c2.Default = rules.CurvatureDefault(m.Direction)
-	param(c2, ms.Step.Curvature, &m.Curvature)
-	var trials float64
-	param(rules.Trials, int64Ptr(ms.Step.Trials), &trials)
-	if ms.Step.Interpolate != nil {
-		if _, used := rule.Param("interpolate"); !used && rule.Name != "" {
-			probs.add(ix.key(key+".step.interpolate"), "step.interpolate is not used by rule %q", rule.Name)
-		} else {
-			m.Interpolate = *ms.Step.Interpolate
-		}
+	out, ok := r.text(table, key, "output")
+	if !ok {
+		return
 	}
-	if _, wolfe := rule.Param("curvature"); wolfe && !(m.Curvature > m.Decrease) {
-		if ms.Step.Curvature != nil {
-			probs.add(ix.value(key+".step.curvature"), "step.curvature (c2 = %v) must exceed step.decrease (c1 = %v)", m.Curvature, m.Decrease)
-		} else {
-			probs.add(ix.value(key+".step.decrease"), "step.decrease (c1 = %v) must be below the curvature constant c2 = %v, the default for direction %q; lower decrease or set step.curvature", m.Decrease, m.Curvature, m.Direction)
-		}
+	m.Output = out
+	at := r.ix.value(key + ".output")
+	switch {
+	case out != filepath.Base(out) || strings.ContainsAny(out, `/\`):
+		r.add(at, "output %q must be a file name in the objective's package directory, without folders", out)
+	case !strings.HasSuffix(out, ".go") || strings.HasSuffix(out, "_test.go"):
+		r.add(at, "output %q must end in .go and not in _test.go", out)
+	case strings.HasPrefix(out, "_") || strings.HasPrefix(out, "."):
+		r.add(at, "output %q starts with %q: the go tool ignores such files", out, out[:1])
+	case buildConstrained(out):
+		r.add(at, "output %q ends in a GOOS or GOARCH suffix: the go tool would build it only there", out)
 	}
+}
 
-	var stop StopLimits
-	var iterations, evaluations float64
-	limit := func(p rules.Param, given *float64, out *float64) {
-		*out = p.Default
-		if given != nil {
-			m.stopSet[p.Key] = true
-			if checkParam(p, *given, key+".stop."+p.Key, ix, probs) {
-				*out = *given
+// params reads every registry parameter the spec sets: its type, its
+// range, whether a chosen entry reads it, and the order constraints
+// between parameters (c1 < c2).
+func (r *specReader) params(m *Minimizer, tables map[string]map[string]any, key string) {
+	ctx := &rules.Context{Derivative: m.Derivative, Direction: m.Direction, Rule: m.Rule}
+	complete := m.Derivative != nil && m.Direction != nil && m.Rule != nil
+	for _, p := range rules.Params() {
+		v, present := tables[p.Table][p.Key]
+		if !present {
+			continue
+		}
+		path := joinPath(joinPath(key, p.Table), p.Key)
+		if complete && !ctx.Reads(p) {
+			r.add(r.ix.key(path), "%s", notReadMessage(p, ctx))
+			continue
+		}
+		if value, ok := r.paramValue(p, path, v); ok {
+			m.Given[p] = value
+		}
+	}
+	if !complete {
+		return
+	}
+	ctx.Value = func(p *rules.Param) float64 {
+		if v, ok := m.Given[p]; ok {
+			return v
+		}
+		return ctx.DefaultValue(p)
+	}
+	for _, p := range rules.Params() {
+		low := p.Exceeds
+		if low == nil || !ctx.Reads(p) || !ctx.Reads(low) {
+			continue
+		}
+		v, bound := ctx.Value(p), ctx.Value(low)
+		if v > bound {
+			continue
+		}
+		if _, given := m.Given[p]; given {
+			r.add(r.ix.value(joinPath(joinPath(key, p.Table), p.Key)), "%s (%s = %v) must exceed %s (%s = %v)", p.Path(), p.Label, v, low.Path(), low.Label, bound)
+			continue
+		}
+		owner := "its default"
+		for _, e := range ctx.Entries() {
+			if _, ok := e.Defaults[p]; ok {
+				owner = fmt.Sprintf("the default for %s %q", choiceOf(e).Path(), e.Name)
+			}
+		}
+		r.add(r.ix.value(joinPath(joinPath(key, low.Table), low.Key)), "%s (%s = %v) must be below %s (%s = %v, %s); lower %s or set %s",
+			low.Path(), low.Label, bound, p.Path(), p.Label, v, owner, low.Path(), p.Path())
+	}
+}
+
+// paramValue checks a parameter's TOML type and range. A whole number may
+// be written as a float with an integral value (evaluations = 1e6).
+func (r *specReader) paramValue(p *rules.Param, path string, v any) (float64, bool) {
+	want := map[rules.Kind]string{rules.Real: "a number", rules.Whole: "a whole number", rules.Switch: "true or false"}[p.Kind]
+	var value float64
+	switch x := v.(type) {
+	case bool:
+		if p.Kind != rules.Switch {
+			r.wrongType(path, want, v)
+			return 0, false
+		}
+		if x {
+			value = 1
+		}
+		return value, true
+	case int64:
+		value = float64(x)
+	case float64:
+		value = x
+		if p.Kind == rules.Whole && x != math.Trunc(x) && !math.IsNaN(x) {
+			r.add(r.ix.value(path), "%s must be a whole number, got %v", specKey(path), x)
+			return 0, false
+		}
+	default:
+		r.wrongType(path, want, v)
+		return 0, false
+	}
+	if p.Kind == rules.Switch {
+		r.wrongType(path, want, v)
+		return 0, false
+	}
+	if !p.Contains(value) {
+		r.add(r.ix.value(path), "%s must be in %s, got %v", specKey(path), p.Range(), value)
+		return 0, false
+	}
+	return value, true
+}
+
+// notReadMessage says which entries read a parameter no chosen entry
+// reads.
+func notReadMessage(p *rules.Param, ctx *rules.Context) string {
+	for _, c := range rules.Choices() {
+		var readers []string
+		for _, e := range c.Entries {
+			if e.Reads(p) {
+				readers = append(readers, fmt.Sprintf("%q", e.Name))
+			}
+		}
+		if len(readers) == 0 {
+			continue
+		}
+		current := ctx.Entries()[choiceIndex(c)]
+		if c == rules.StepRule {
+			return fmt.Sprintf("%s is not used by rule %q", p.Path(), current.Name)
+		}
+		return fmt.Sprintf("%s is only used with %s = %s (%s is %q)", p.Path(), c.Path(), strings.Join(readers, " or "), c.Path(), current.Name)
+	}
+	return p.Path() + " is not used"
+}
+
+// choiceIndex is a choice's place in rules.Choices and Context.Entries.
+func choiceIndex(c *rules.Choice) int {
+	for i, d := range rules.Choices() {
+		if d == c {
+			return i
+		}
+	}
+	return -1
+}
+
+// choiceOf finds the choice an entry belongs to.
+func choiceOf(e *rules.Entry) *rules.Choice {
+	for _, c := range rules.Choices() {
+		for _, f := range c.Entries {
+			if f == e {
+				return c
 			}
 		}
 	}
-	limit(rules.StopGradient, ms.Stop.Gradient, &stop.Gradient)
-	limit(rules.StopStep, ms.Stop.Step, &stop.Step)
-	limit(rules.StopIterations, int64Ptr(ms.Stop.Iterations), &iterations)
-	limit(rules.StopEvaluations, int64Ptr(ms.Stop.Evaluations), &evaluations)
-	stop.Iterations, stop.Evaluations = int(iterations), int(evaluations)
-	return stop, int(trials)
+	return nil
 }
 
-func int64Ptr(v *int64) *float64 {
-	if v == nil {
-		return nil
+// expect reads [minimizer.expect].
+func (r *specReader) expect(m *Minimizer, table map[string]any, key string) {
+	m.expectX = table["x"]
+	m.Expect = &Expect{Tolerance: 1e-6}
+	if table["x"] == nil && table["status"] == nil {
+		r.add(r.ix.key(key+".expect"), "expect needs x, the expected minimizer, or status, the expected end")
 	}
-	f := float64(*v)
-	return &f
+	if text, ok := r.text(table, key+".expect", "status"); ok {
+		var texts []string
+		for _, s := range rules.Statuses {
+			texts = append(texts, s.Text)
+		}
+		status, found := rules.StatusByText(text)
+		if !found {
+			msg := fmt.Sprintf("expect.status %q is not one of %s", text, quoteJoin(texts, ", "))
+			if near, ok := closest(text, texts); ok {
+				msg += fmt.Sprintf("; did you mean %q?", near)
+			}
+			r.add(r.ix.value(key+".expect.status"), "%s", msg)
+		}
+		m.Expect.Status = status
+	}
+	if v, ok := table["tolerance"]; ok {
+		var t float64
+		switch x := v.(type) {
+		case int64:
+			t = float64(x)
+		case float64:
+			t = x
+		default:
+			r.wrongType(key+".expect.tolerance", "a number", v)
+			return
+		}
+		if !(t > 0) || math.IsInf(t, 1) {
+			r.add(r.ix.value(key+".expect.tolerance"), "expect.tolerance must be a positive number, got %v", t)
+		}
+		m.Expect.Tolerance = t
+	}
 }
 
-// checkParam reports a value outside its parameter's range.
-func checkParam(p rules.Param, v float64, key string, ix *positions, probs *Problems) bool {
-	if p.Contains(v) {
-		return true
+func contains(list []string, s string) bool {
+	for _, x := range list {
+		if x == s {
+			return true
+		}
 	}
-	name := strings.SplitN(key, ".", 3)[2]
-	probs.add(ix.value(key), "%s must be in %s, got %v", name, p.Range(), v)
 	return false
-}
-
-// choose validates an enumerated key against a rules list.
-func choose(given *string, def string, list []rules.Entry, key string, at func(string) Pos, probs *Problems) string {
-	if given == nil {
-		return def
-	}
-	if _, ok := rules.Lookup(list, *given); !ok {
-		probs.add(at(key), "%s %q is not one of %s", key, *given, quoteList(rules.Names(list)))
-		return ""
-	}
-	return *given
-}
-
-func quoteList(names []string) string {
-	q := make([]string, len(names))
-	for i, n := range names {
-		q[i] = fmt.Sprintf("%q", n)
-	}
-	return strings.Join(q, ", ")
 }
 
 // validReference accepts "Name" or "Type.Name" of Go identifiers.

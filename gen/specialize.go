@@ -178,12 +178,11 @@ type specializedKernels struct {
 }
 
 // Stand-ins of the templates that gen never copies: gen replaces them or
-// the glue emits them.
+// the glue emits them. (Selectors and their values are never reached:
+// every dispatcher that reads them is replaced by its alternative.)
 var standIns = map[string]bool{
 	"elem": true, "dim": true, "vec": true, "receiver": true, "status": true, "limits": true,
-	"statusGradientSmall": true, "Source": true,
-	"derivativeSource": true, "sourceAnalytic": true, "kindSteepest": true, "ruleFixed": true, "backtrackShrink": true,
-	"observe": true,
+	"statusGradientSmall": true, "Source": true, "observe": true,
 }
 
 // specialize copies the declarations the plan needs, in the order they are
@@ -194,6 +193,8 @@ func specialize(c kernelChoice) (*specializedKernels, error) {
 		return nil, err
 	}
 	out := &specializedKernels{uses: map[string]bool{}}
+	dispatchers := ks.dispatchers(c.provided)
+	var unpicked []string
 	// Decide the generated name of every template object reached.
 	newName := map[types.Object]string{}
 	var reached []*unit
@@ -210,6 +211,9 @@ func specialize(c kernelChoice) (*specializedKernels, error) {
 		target := name
 		if alt, ok := c.pick[name]; ok {
 			target = alt
+		} else if _, dispatcher := dispatchers[name]; dispatcher {
+			unpicked = append(unpicked, name)
+			return
 		}
 		if gen, ok := c.provided[name]; ok {
 			newName[obj] = gen
@@ -244,6 +248,9 @@ func specialize(c kernelChoice) (*specializedKernels, error) {
 	newName[root] = c.prefix + "Minimize"
 	out.entryName = newName[root]
 	visit(ks.units["minimize"])
+	if len(unpicked) > 0 {
+		return nil, fmt.Errorf("no registry entry picks an alternative for the templates' dispatcher(s) %s (a thalweg bug)", strings.Join(unpicked, ", "))
+	}
 
 	rw := &rewriter{ks: ks, c: c, newName: newName}
 	var buf bytes.Buffer

@@ -45,23 +45,24 @@ func WriteStarter(w io.Writer, dir, ref string) error {
 		dim = 2
 	}
 	// The default direction, or the first that fits on the stack.
-	direction := ""
-	for _, d := range []string{rules.DefaultDirection, "lbfgs", "cg", "steepest"} {
+	var direction *rules.Entry
+	for d := rules.Direction.DefaultEntry(); d != nil; d = d.Fallback {
 		var scratch Problems
 		sized := shape
 		sized.Dim = dim
-		checkStackSize(&Minimizer{Direction: d, Memory: int(rules.Memory.Default)}, sized, &positions{keys: map[string]Pos{}, values: map[string]Pos{}}, &scratch)
+		checkStackSize(&Minimizer{Direction: d, Derivative: rules.Derivative.DefaultEntry(), Rule: rules.StepRule.DefaultEntry()},
+			sized, &positions{keys: map[string]Pos{}, values: map[string]Pos{}}, &scratch)
 		if len(scratch) == 0 {
 			direction = d
 			break
 		}
 	}
-	if direction == "" {
+	if direction == nil {
 		return Problems{{lp.position(fn.Pos()), fmt.Sprintf("objective %s has %d unknowns: no direction's state fits in the %d bytes Go keeps on the stack, so no minimizer could avoid allocating", ref, dim, maxStackVariable)}}
 	}
 
 	// An analytic gradient named after the objective, when one fits.
-	m := &Minimizer{Derivative: "analytic"}
+	m := &Minimizer{Derivative: rules.Analytic}
 	gradient := ""
 	for _, suffix := range []string{"Grad", "Gradient"} {
 		m.Gradient = fn.Name() + suffix
@@ -107,20 +108,44 @@ func WriteStarter(w io.Writer, dir, ref string) error {
 	b.WriteString("[[minimizer]]\n")
 	kv("name", fmt.Sprintf("%q", name), "exported name of the generated minimizer")
 	kv("objective", fmt.Sprintf("%q", ref), signatureText(sig))
-	derivativeChoice := rules.DefaultDerivative
+	chosen := &Minimizer{Derivative: rules.Derivative.DefaultEntry(), Direction: direction, Rule: rules.StepRule.DefaultEntry()}
 	if gradient != "" {
-		derivativeChoice = "analytic"
-		kv("derivative", `"analytic"`, `"analytic" | "forward" | "central"`)
+		chosen.Derivative = rules.Analytic
+	}
+	ctx := resolveContext(chosen, shape.Elem, dim)
+	choiceLine := func(c *rules.Choice, e *rules.Entry, note string) {
+		comment := quoteJoin(c.Names(), " | ")
+		if note != "" {
+			comment += "; " + note
+		}
+		kv(c.Key, fmt.Sprintf("%q", e.Name), comment)
+	}
+	// params writes a table's parameters: active when a chosen entry reads
+	// them, commented out with the entries that do otherwise.
+	params := func(table string) {
+		for _, p := range rules.Params() {
+			if p.Table != table {
+				continue
+			}
+			if ctx.Reads(p) {
+				kv(p.Key, rules.FormatValue(p, ctx.Value(p)), p.Range()+": "+p.Doc)
+				continue
+			}
+			kv("# "+p.Key, rules.FormatValue(p, ctx.DefaultValue(p)), readersOf(p)+" only, "+p.Range()+": "+p.Doc)
+		}
+	}
+	if gradient != "" {
+		choiceLine(rules.Derivative, rules.Analytic, "")
 		kv("gradient", fmt.Sprintf("%q", gradient), "found beside the objective; the generated test checks it")
 	} else {
-		kv("derivative", fmt.Sprintf("%q", rules.DefaultDerivative), `"analytic" (then set gradient) | "forward" | "central"`)
+		choiceLine(rules.Derivative, chosen.Derivative, `"analytic" needs a gradient key`)
 	}
-	directionNote := `"steepest" | "bfgs" | "lbfgs" | "cg"`
-	if direction != rules.DefaultDirection {
-		directionNote += "; " + rules.DefaultDirection + " would not fit on the stack"
+	note := ""
+	if direction != rules.Direction.DefaultEntry() {
+		note = rules.Direction.Default + " would not fit on the stack"
 	}
-	kv("direction", fmt.Sprintf("%q", direction), directionNote)
-	kv("# memory", fmt.Sprint(rules.Memory.Default), "lbfgs only: correction pairs kept, "+rules.Memory.Range())
+	choiceLine(rules.Direction, direction, note)
+	params("")
 	if shape.Scalar() {
 		kv("start", "0.0", "a typical starting point: replace with yours")
 	} else {
@@ -137,29 +162,40 @@ func WriteStarter(w io.Writer, dir, ref string) error {
 	}
 	kv("# output", fmt.Sprintf("%q", snakeCase(name)+"_min.go"), "the default file name, beside the objective")
 	b.WriteString("\n[minimizer.step]\n")
-	kv("rule", fmt.Sprintf("%q", rules.DefaultStepRule), `"fixed" | "decrease" | "armijo" | "wolfe" | "strong-wolfe"`)
-	for _, p := range []rules.Param{rules.Initial, rules.Shrink, rules.Decrease, rules.Trials} {
-		kv(p.Key, paramValue(p, p.Default), p.Range()+": "+p.Doc)
-	}
-	kv("# curvature", "0.9", "wolfe rules only: c2 in (decrease, 1); 0.1 with direction \"cg\"")
-	kv("# interpolate", "false", "decrease and armijo: trials by safeguarded interpolation")
+	choiceLine(rules.StepRule, chosen.Rule, "")
+	params("step")
 	b.WriteString("\n[minimizer.stop]\n")
-	for _, p := range []rules.Param{rules.StopGradient, rules.StopStep, rules.StopIterations, rules.StopEvaluations} {
-		kv(p.Key, paramValue(p, rules.StopDefault(p, shape.Elem, derivativeChoice)), p.Doc)
-	}
+	params("stop")
 	b.WriteString("\n# [minimizer.expect]            # optional: the generated test asserts this minimizer\n")
 	b.WriteString("# x = ...\n# tolerance = 1e-6\n")
 	_, err := io.WriteString(w, b.String())
 	return err
 }
 
-// paramValue renders a parameter's value as TOML: whole numbers for
-// integer parameters, floats that read back exactly otherwise.
-func paramValue(p rules.Param, v float64) string {
-	if p.Integer {
-		return fmt.Sprint(int64(v))
+// quoteJoin quotes each name and joins them with sep.
+func quoteJoin(names []string, sep string) string {
+	q := make([]string, len(names))
+	for i, n := range names {
+		q[i] = fmt.Sprintf("%q", n)
 	}
-	return formatFloat(v)
+	return strings.Join(q, sep)
+}
+
+// readersOf names the entries that read a parameter: `rule "wolfe" or
+// "strong-wolfe"`.
+func readersOf(p *rules.Param) string {
+	for _, c := range rules.Choices() {
+		var names []string
+		for _, e := range c.Entries {
+			if e.Reads(p) {
+				names = append(names, e.Name)
+			}
+		}
+		if len(names) > 0 {
+			return c.Key + " " + quoteJoin(names, " or ")
+		}
+	}
+	return "unused"
 }
 
 // StarterPath is the default file name of `thalweg init` for an objective.

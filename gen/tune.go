@@ -16,29 +16,41 @@ import (
 	"github.com/thalweg-go/thalweg/rules"
 )
 
-// tunePolicies are the direction × step-rule pairs tune tries: every
-// direction with the rules that suit it. cg needs a Wolfe rule for descent
-// directions (Nocedal & Wright 2006, §5.2), fixed steps need a hand-picked
-// step, and simple decrease guarantees nothing (§3.1), so those are tried
-// only when the spec itself uses them.
-var tunePolicies = []Policy{
-	{"steepest", "armijo", false}, {"steepest", "armijo", true}, {"steepest", "wolfe", false},
-	{"bfgs", "armijo", false}, {"bfgs", "wolfe", false}, {"bfgs", "strong-wolfe", false},
-	{"lbfgs", "armijo", false}, {"lbfgs", "wolfe", false}, {"lbfgs", "strong-wolfe", false},
-	{"cg", "wolfe", false}, {"cg", "strong-wolfe", false},
+// TunePolicies are the direction × step-rule pairs tune tries: every
+// direction with every rule the registry marks for tuning that suits it
+// (a direction that needs a curvature condition only with a rule that
+// enforces one; Nocedal & Wright 2006, §5.2), each switch the rule reads
+// both ways. Fixed steps need a hand-picked step and simple decrease
+// guarantees nothing (§3.1), so the registry leaves them out; they are
+// tried only when the spec itself uses them.
+func TunePolicies() []Policy {
+	var out []Policy
+	for _, d := range rules.Direction.Entries {
+		for _, r := range rules.StepRule.Entries {
+			if !r.Tune || d.NeedsCurvature && !r.Curvature {
+				continue
+			}
+			out = append(out, Policy{Direction: d, Rule: r})
+			for _, p := range r.Params {
+				if p.Kind == rules.Switch {
+					out = append(out, Policy{Direction: d, Rule: r, On: p})
+				}
+			}
+		}
+	}
+	return out
 }
 
-// Policy is one direction, step rule and backtracking choice.
+// Policy is one direction and step rule, with at most one switch on.
 type Policy struct {
-	Direction   string
-	Rule        string
-	Interpolate bool
+	Direction, Rule *rules.Entry
+	On              *rules.Param
 }
 
 func (p Policy) String() string {
-	s := p.Direction + " + " + p.Rule
-	if p.Interpolate {
-		s += " (interpolate)"
+	s := p.Direction.Name + " + " + p.Rule.Name
+	if p.On != nil {
+		s += " (" + p.On.Key + ")"
 	}
 	return s
 }
@@ -62,9 +74,14 @@ type TuneRow struct {
 // others, the gradient test before the step test, then fewer objective
 // calls, then less time.
 func Tune(p *Plan) ([]TuneRow, error) {
-	own := Policy{p.M.Direction, p.M.Rule, p.M.Interpolate}
+	own := Policy{Direction: p.Direction, Rule: p.Rule}
+	for _, q := range p.Rule.Params {
+		if q.Kind == rules.Switch && p.Switch(q) {
+			own.On = q
+		}
+	}
 	policies := []Policy{own}
-	for _, pol := range tunePolicies {
+	for _, pol := range TunePolicies() {
 		if pol != own {
 			policies = append(policies, pol)
 		}
@@ -122,14 +139,24 @@ func Tune(p *Plan) ([]TuneRow, error) {
 	return rows, nil
 }
 
-// variant is the plan with another policy under another name, with the
-// curvature default of its direction unless the spec set one for the
-// same direction; nil when its state would not fit on the stack.
+// variant is the plan with another policy under another name. Values the
+// spec set are kept, except those the new direction has its own default
+// for (cg's curvature constant) when the direction changes; nil when the
+// variant's state would not fit on the stack or its constants conflict.
 func (p *Plan) variant(pol Policy, name string) *Plan {
 	m := *p.M
-	m.Name, m.Direction, m.Rule, m.Interpolate = name, pol.Direction, pol.Rule, pol.Interpolate
-	if pol.Direction != p.M.Direction {
-		m.Curvature = rules.CurvatureDefault(pol.Direction)
+	m.Name, m.Direction, m.Rule = name, pol.Direction, pol.Rule
+	m.Given = map[*rules.Param]float64{}
+	for q, v := range p.M.Given {
+		if _, own := pol.Direction.Defaults[q]; own && pol.Direction != p.Direction {
+			continue
+		}
+		if q.Kind != rules.Switch {
+			m.Given[q] = v
+		}
+	}
+	if pol.On != nil {
+		m.Given[pol.On] = 1
 	}
 	m.Output = "thalweg_tune_" + name + ".go"
 	m.Expect = nil
@@ -138,12 +165,15 @@ func (p *Plan) variant(pol Policy, name string) *Plan {
 	if len(probs) > 0 {
 		return nil
 	}
-	if wolfe := m.Rule == "wolfe" || m.Rule == "strong-wolfe"; wolfe && !(m.Curvature > m.Decrease) {
-		return nil // the spec's c1 is not below this direction's c2
-	}
 	v := *p
 	v.M = &m
 	v.Prefix = lowerFirst(name)
+	v.Context = resolveContext(&m, p.Shape.Elem, p.Shape.Dim)
+	for _, q := range rules.Params() {
+		if q.Exceeds != nil && v.Reads(q) && v.Reads(q.Exceeds) && !(v.Value(q) > v.Value(q.Exceeds)) {
+			return nil // the spec's c1 is not below this direction's c2
+		}
+	}
 	return &v
 }
 
@@ -215,7 +245,7 @@ func parseTune(out []byte, policies []Policy) ([]TuneRow, error) {
 // WriteTuneTable prints the rows, best first, marking the spec's choice
 // and the recommended one.
 func WriteTuneTable(w io.Writer, p *Plan, rows []TuneRow) error {
-	fmt.Fprintf(w, "%s from start %s, derivative %s, each policy with the spec's step constants and stop limits:\n\n", p.M.Name, formatNumbers(p.M.Start), p.M.Derivative)
+	fmt.Fprintf(w, "%s from start %s, derivative %s, each policy with the spec's step constants and stop limits:\n\n", p.M.Name, formatNumbers(p.M.Start), p.Derivative.Name)
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
 	fmt.Fprintln(tw, "policy\tstatus\tobjective calls\titerations\tfinal f\ttime per solve\t")
 	// With an analytic gradient the objective calls leave out gradient
@@ -243,7 +273,7 @@ func WriteTuneTable(w io.Writer, p *Plan, rows []TuneRow) error {
 		return err
 	}
 	note := ""
-	if p.M.Derivative == "analytic" {
+	if p.Derivative == rules.Analytic {
 		note = " Objective calls leave out gradient calls, which the Wolfe rules make at more trials than backtracking does; the time includes both."
 	}
 	_, err := fmt.Fprintln(w, "\nRanked by convergence (the gradient test first), then objective calls, then time; times are for this machine, so validate on the target."+note)

@@ -1,19 +1,13 @@
 package rules
 
 import (
-	"go/parser"
-	"go/token"
-	"io/fs"
 	"math"
-	"strings"
 	"testing"
-
-	"github.com/thalweg-go/thalweg/templates"
 )
 
 func TestParamRanges(t *testing.T) {
 	cases := []struct {
-		p    Param
+		p    *Param
 		v    float64
 		want bool
 	}{
@@ -21,58 +15,78 @@ func TestParamRanges(t *testing.T) {
 		{Initial, 1e300, true}, {Initial, math.Inf(1), false}, {Initial, 0, false},
 		{Trials, 1, true}, {Trials, 1.5, false}, {Trials, 1000, true}, {Trials, 1001, false},
 		{StopGradient, 0, true}, {StopGradient, math.NaN(), false}, {StopGradient, math.Inf(1), false},
+		{Interpolate, 1, true}, {Interpolate, 0, true}, {Interpolate, 0.5, false},
 	}
 	for _, c := range cases {
 		if got := c.p.Contains(c.v); got != c.want {
 			t.Errorf("%s.Contains(%v) = %v, want %v", c.p.Key, c.v, got, c.want)
 		}
 	}
-	if got := Shrink.Range(); got != "(0, 1)" {
-		t.Errorf("Shrink.Range() = %q", got)
-	}
-	if got := Initial.Range(); got != "(0, ∞)" {
-		t.Errorf("Initial.Range() = %q", got)
+	for p, want := range map[*Param]string{Shrink: "(0, 1)", Initial: "(0, ∞)", Trials: "[1, 1000]", Interpolate: "true|false"} {
+		if got := p.Range(); got != want {
+			t.Errorf("%s.Range() = %q, want %q", p.Key, got, want)
+		}
 	}
 }
 
-// Every default lies in its own range, and every entry names a kernel
-// that exists in the templates, so the tables cannot drift from the code.
-func TestTablesMatchTemplates(t *testing.T) {
-	declared := map[string]bool{}
-	names, _ := fs.Glob(templates.Source, "*.go")
-	for _, name := range names {
-		if strings.HasSuffix(name, "_test.go") {
-			continue
+// Every default, of a parameter or of an entry, lies in its range, for
+// every float type and choice of entries; every entry has a reference; and
+// the registry's lists hold what the package declares.
+func TestRegistryIsConsistent(t *testing.T) {
+	seen := map[string]bool{}
+	for _, p := range Params() {
+		if seen[p.Path()] {
+			t.Errorf("parameter %s is registered twice", p.Path())
 		}
-		data, _ := fs.ReadFile(templates.Source, name)
-		f, err := parser.ParseFile(token.NewFileSet(), name, data, 0)
-		if err != nil {
-			t.Fatal(err)
+		seen[p.Path()] = true
+		if p.Table != "" && p.Table != "step" && p.Table != "stop" {
+			t.Errorf("%s: unknown table %q", p.Key, p.Table)
 		}
-		for name := range f.Scope.Objects {
-			declared[name] = true
+		if p.Kind == Switch && (p.On == nil || p.Off == nil) {
+			t.Errorf("switch %s picks no alternatives", p.Path())
 		}
 	}
-	for _, list := range [][]Entry{Directions(), StepRules(), Derivatives()} {
-		for _, e := range list {
-			if !declared[e.Kernel] {
-				t.Errorf("%s names kernel %s, which templates does not declare", e.Name, e.Kernel)
-			}
-			if len(e.References) == 0 {
-				t.Errorf("%s has no reference", e.Name)
-			}
-			for _, p := range e.Params {
-				if p.Key != "interpolate" && !p.Contains(p.Default) {
-					t.Errorf("%s: default %v of %s is outside %s", e.Name, p.Default, p.Key, p.Range())
+	for _, elem := range []string{"float32", "float64"} {
+		for _, d := range Derivative.Entries {
+			for _, dir := range Direction.Entries {
+				for _, r := range StepRule.Entries {
+					c := &Context{Elem: elem, Dim: 3, Derivative: d, Direction: dir, Rule: r}
+					c.Value = c.DefaultValue
+					for _, p := range Params() {
+						if v := c.DefaultValue(p); c.Reads(p) && !p.Contains(v) {
+							t.Errorf("%s %s %s %s: default %v of %s is outside %s", elem, d.Name, dir.Name, r.Name, v, p.Path(), p.Range())
+						}
+					}
+					for _, k := range Constants {
+						if k.Value(c) == "" {
+							t.Errorf("%s: constant %s has no value", elem, k.Name)
+						}
+					}
 				}
 			}
 		}
 	}
-	for _, elem := range []string{"float32", "float64"} {
-		for _, source := range []string{"analytic", "forward", "central"} {
-			if g := StopDefault(StopGradient, elem, source); !(g > 0) {
-				t.Errorf("no gradient default for %s %s", elem, source)
+	for _, c := range Choices() {
+		if c.DefaultEntry() == nil {
+			t.Errorf("%s: default %q is not an entry", c.Path(), c.Default)
+		}
+		for _, e := range c.Entries {
+			if len(e.References) == 0 {
+				t.Errorf("%s %s has no reference", c.Key, e.Name)
 			}
+			if len(e.Picks) == 0 {
+				t.Errorf("%s %s picks no template alternative", c.Key, e.Name)
+			}
+		}
+	}
+	for _, d := range Derivative.Entries {
+		if d.GradientCalls == nil {
+			t.Errorf("derivative %s has no cost", d.Name)
+		}
+	}
+	for _, r := range StepRule.Entries {
+		if r.IterationCalls == nil {
+			t.Errorf("rule %s has no cost", r.Name)
 		}
 	}
 }

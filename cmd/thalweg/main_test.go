@@ -13,6 +13,7 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/thalweg-go/thalweg/gen"
 	"github.com/thalweg-go/thalweg/rules"
 )
 
@@ -398,8 +399,11 @@ func TestVersionAndRules(t *testing.T) {
 		"fixed", "decrease", "armijo", "wolfe", "strong-wolfe",
 		"analytic", "forward", "central",
 	}
-	for _, list := range [][]rules.Entry{rules.Directions(), rules.StepRules(), rules.Derivatives()} {
-		names = append(names, rules.Names(list)...)
+	for _, c := range rules.Choices() {
+		names = append(names, c.Names()...)
+	}
+	for _, p := range rules.Params() {
+		names = append(names, p.Key)
 	}
 	for _, name := range names {
 		if !regexp.MustCompile(`(?m)^\s+` + regexp.QuoteMeta(name) + `\s`).MatchString(stdout) {
@@ -593,9 +597,9 @@ func TestTune(t *testing.T) {
 			rows = append(rows, line)
 		}
 	}
-	// 11 sensible policies; the spec's bfgs + armijo is one of them.
-	if len(rows) != 11 {
-		t.Fatalf("tune printed %d policy rows, want 11:\n%s", len(rows), stdout)
+	// Every sensible policy once; the spec's bfgs + armijo is one of them.
+	if want := len(gen.TunePolicies()); want < 11 || len(rows) != want {
+		t.Fatalf("tune printed %d policy rows, want %d (at least 11):\n%s", len(rows), want, stdout)
 	}
 	if !strings.Contains(rows[0], "← recommended") || !strings.Contains(rows[0], "gradient small") {
 		t.Errorf("first row is not the recommended, converged one: %q", rows[0])
@@ -604,7 +608,7 @@ func TestTune(t *testing.T) {
 		t.Errorf("the spec's choice is marked %d times", n)
 	}
 	for _, r := range rows {
-		if strings.HasPrefix(r, "bfgs + armijo ") && !strings.Contains(r, "the spec's choice") {
+		if strings.HasPrefix(r, "bfgs + armijo ") && !strings.HasPrefix(r, "bfgs + armijo (") && !strings.Contains(r, "the spec's choice") {
 			t.Errorf("the spec's bfgs + armijo row is not marked: %q", r)
 		}
 	}

@@ -1,0 +1,168 @@
+package gen
+
+import (
+	"go/ast"
+	"go/types"
+	"path/filepath"
+	"sort"
+	"strings"
+	"testing"
+
+	"github.com/thalweg-go/thalweg/rules"
+)
+
+// TestRegistryMatchesTemplates holds the registry in rules and the kernels
+// in templates to each other, both ways, so that nothing added to one can
+// be forgotten in the other without a failure:
+//
+//   - every dispatcher's alternatives are exactly the alternatives some
+//     entry or switch picks for it, and every pick names a dispatcher and
+//     one of its alternatives;
+//   - every templates constant or variable a kernel reads (outside the
+//     dispatchers) is a parameter's constant, a derived constant, a status
+//     stand-in or a shape stand-in, and each of those the registry names
+//     exists in the templates;
+//   - the fields of the limits stand-in are the parameters' limit fields.
+func TestRegistryMatchesTemplates(t *testing.T) {
+	ks, err := loadKernels()
+	if err != nil {
+		t.Fatal(err)
+	}
+	scope := ks.pkg.Scope()
+	provided := map[string]string{}
+	for _, q := range rules.Params() {
+		if q.Const != "" {
+			provided[q.Const] = "parameter " + q.Path()
+		}
+	}
+	for _, c := range rules.Constants {
+		provided[c.Name] = "derived constant"
+	}
+	for _, s := range rules.Statuses {
+		provided[s.StandIn] = "status " + s.Text
+	}
+	for name, what := range provided {
+		if scope.Lookup(name) == nil {
+			t.Errorf("the registry's %s names %s, which templates does not declare", what, name)
+		}
+	}
+
+	// Dispatchers and picks.
+	dispatchers := ks.dispatchers(provided)
+	picked := map[string]map[string]bool{}
+	addPicks := func(owner string, picks rules.Picks) {
+		for d, alt := range picks {
+			alts, ok := dispatchers[d]
+			if !ok {
+				t.Errorf("%s picks %s for %s, which is no dispatcher of the templates", owner, alt, d)
+				continue
+			}
+			if !contains(alts, alt) {
+				t.Errorf("%s picks %s for %s, which is not one of its alternatives %v", owner, alt, d, alts)
+			}
+			if picked[d] == nil {
+				picked[d] = map[string]bool{}
+			}
+			picked[d][alt] = true
+		}
+	}
+	for _, c := range rules.Choices() {
+		for _, e := range c.Entries {
+			addPicks(c.Key+" "+e.Name, e.Picks)
+		}
+	}
+	for _, q := range rules.Params() {
+		addPicks("switch "+q.Path()+" on", q.On)
+		addPicks("switch "+q.Path()+" off", q.Off)
+	}
+	if len(dispatchers) == 0 {
+		t.Fatal("found no dispatcher in the templates; the check would be vacuous")
+	}
+	for d, alts := range dispatchers {
+		for _, alt := range alts {
+			if !picked[d][alt] {
+				t.Errorf("no registry entry picks %s for the dispatcher %s", alt, d)
+			}
+		}
+	}
+
+	// The constants, variables and statuses of params.go and shape.go
+	// that kernels reachable from minimize read, with every dispatcher
+	// standing for all of its alternatives.
+	used := map[string]bool{}
+	var standInsRead []string
+	seen := map[*unit]bool{}
+	var visit func(u *unit)
+	visit = func(u *unit) {
+		if u == nil || seen[u] {
+			return
+		}
+		seen[u] = true
+		if alts, ok := dispatchers[u.name]; ok {
+			for _, alt := range alts {
+				visit(ks.units[alt])
+			}
+			return
+		}
+		for _, d := range u.decls {
+			for _, id := range identsIn(d) {
+				obj := ks.info.Uses[id]
+				if obj == nil || obj.Parent() != scope {
+					continue
+				}
+				name := obj.Name()
+				file := filepath.Base(ks.fset.Position(obj.Pos()).Filename)
+				switch {
+				case provided[name] != "":
+					used[name] = true
+				case standIns[name] || standIns[ks.units[name].name]:
+				case file == "params.go" || file == "shape.go":
+					if !contains(standInsRead, name) {
+						standInsRead = append(standInsRead, name)
+					}
+				default:
+					visit(ks.units[name])
+				}
+			}
+		}
+	}
+	visit(ks.units["minimize"])
+	sort.Strings(standInsRead)
+	if len(standInsRead) > 0 {
+		t.Errorf("kernels read %s of params.go or shape.go, which no registry parameter, constant or status provides", strings.Join(standInsRead, ", "))
+	}
+	for name, what := range provided {
+		if !used[name] {
+			t.Errorf("the registry's %s names %s, which no kernel reads", what, name)
+		}
+	}
+
+	// Limits.
+	var fields, limits []string
+	st := scope.Lookup("limits").Type().Underlying().(*types.Struct)
+	for i := 0; i < st.NumFields(); i++ {
+		fields = append(fields, st.Field(i).Name())
+	}
+	for _, q := range rules.Params() {
+		if q.Limit != "" {
+			limits = append(limits, q.Limit)
+		}
+	}
+	sort.Strings(fields)
+	sort.Strings(limits)
+	if strings.Join(fields, ",") != strings.Join(limits, ",") {
+		t.Errorf("the templates' limits have fields %v, the registry's stop limits %v", fields, limits)
+	}
+}
+
+// identsIn lists the identifiers in a declaration.
+func identsIn(n ast.Node) []*ast.Ident {
+	var ids []*ast.Ident
+	ast.Inspect(n, func(n ast.Node) bool {
+		if id, ok := n.(*ast.Ident); ok {
+			ids = append(ids, id)
+		}
+		return true
+	})
+	return ids
+}

@@ -1,0 +1,46 @@
+package rules
+
+import (
+	"math"
+	"strconv"
+)
+
+// Constant is a templates constant (templates/params.go) that no spec key
+// sets: gen derives it from the float type, the dimension and the chosen
+// entries.
+type Constant struct {
+	Name  string // in templates/params.go
+	Doc   string // echoed beside the generated constant
+	Value func(c *Context) string
+}
+
+// Constants lists the derived constants.
+var Constants = []*Constant{
+	{"derivativeCost", "objective calls per gradient", func(c *Context) string {
+		return strconv.Itoa(c.Derivative.GradientCalls(c.Dim))
+	}},
+	{"unitRoundoff", "unit roundoff u of the float type", func(c *Context) string {
+		return FormatFloat(Roundoff(c.Elem))
+	}},
+	{"largestFinite", "the largest finite value of the float type", func(c *Context) string {
+		if c.Elem == "float32" {
+			return "0x1.fffffep127"
+		}
+		return "0x1.fffffffffffffp1023"
+	}},
+	{"forwardScale", "√u, forward-difference step scale (Nocedal & Wright 2006, §8.1)", func(c *Context) string {
+		return FormatFloat(math.Sqrt(Roundoff(c.Elem)))
+	}},
+	{"centralScale", "∛u, central-difference step scale (Nocedal & Wright 2006, §8.1)", func(c *Context) string {
+		return FormatFloat(math.Cbrt(Roundoff(c.Elem)))
+	}},
+}
+
+// Roundoff is the unit roundoff u = 2^−p of a float type with p-bit
+// significand: 2⁻²⁴ for float32, 2⁻⁵³ for float64 (IEEE 754).
+func Roundoff(elem string) float64 {
+	if elem == "float32" {
+		return 0x1p-24
+	}
+	return 0x1p-53
+}
