@@ -46,22 +46,25 @@ func Generate(specPaths []string) ([]Output, error) {
 }
 
 // Plans parses the specs and resolves every minimizer against its package.
+// A minimizer whose spec entry has problems is not resolved, but the
+// others are, so that one run reports the spec problems of some
+// minimizers together with the objective problems of the rest.
 func Plans(specPaths []string) ([]*Plan, error) {
 	var probs Problems
 	var specs []*Spec
 	for _, path := range specPaths {
 		spec, err := ParseSpec(path)
 		if err != nil {
-			if ps, ok := err.(Problems); ok {
-				probs = append(probs, ps...)
+			ps, ok := err.(Problems)
+			if !ok {
+				return nil, err
+			}
+			probs = append(probs, ps...)
+			if spec = validPart(spec, ps); spec == nil {
 				continue
 			}
-			return nil, err
 		}
 		specs = append(specs, spec)
-	}
-	if err := probs.Err(); err != nil {
-		return nil, err
 	}
 	packages := map[string]*loadedPackage{}
 	var plans []*Plan
@@ -96,6 +99,45 @@ func Plans(specPaths []string) ([]*Plan, error) {
 		return nil, err
 	}
 	return plans, nil
+}
+
+// validPart returns a copy of spec holding only the minimizers none of
+// whose keys has a problem, or nil when none is left or when a problem
+// lies outside every minimizer (a package key, an unknown top-level key,
+// an unreadable file): then nothing of the spec can be trusted.
+func validPart(spec *Spec, probs Problems) *Spec {
+	if spec == nil || spec.pos == nil {
+		return nil
+	}
+	owner := map[Pos]int{} // position of a key or value → index of its minimizer
+	for i, m := range spec.Minimizers {
+		for _, index := range []map[string]Pos{spec.pos.keys, spec.pos.values} {
+			for path, pos := range index {
+				if path == m.keyPrefix || strings.HasPrefix(path, m.keyPrefix+".") {
+					owner[pos] = i
+				}
+			}
+		}
+	}
+	bad := map[int]bool{}
+	for _, p := range probs {
+		i, ok := owner[p.Pos]
+		if !ok {
+			return nil
+		}
+		bad[i] = true
+	}
+	valid := *spec
+	valid.Minimizers = nil
+	for i, m := range spec.Minimizers {
+		if !bad[i] {
+			valid.Minimizers = append(valid.Minimizers, m)
+		}
+	}
+	if len(valid.Minimizers) == 0 {
+		return nil
+	}
+	return &valid
 }
 
 // packageDirProblem says why dir cannot hold the objective's package.

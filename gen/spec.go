@@ -123,7 +123,8 @@ type Expect struct {
 }
 
 // ParseSpec reads and validates a spec file. Errors carry the spec's
-// positions; all errors of the file are reported together.
+// positions; all errors of the file are reported together. When the file
+// decodes, the spec is returned beside its Problems, as far as it is valid.
 func ParseSpec(path string) (*Spec, error) {
 	data, err := os.ReadFile(path)
 	if err != nil {
@@ -197,10 +198,7 @@ func parseSpecData(path string, data []byte) (*Spec, error) {
 		outputs[m.Output] = m.Name
 		spec.Minimizers = append(spec.Minimizers, m)
 	}
-	if err := probs.Err(); err != nil {
-		return nil, err
-	}
-	return spec, nil
+	return spec, probs.Err()
 }
 
 var decodeTypePattern = regexp.MustCompile(`cannot decode TOML (\w+) into .* of type (\S+)$`)
