@@ -218,19 +218,31 @@ func topLevelNames(src []byte) []string {
 	return names
 }
 
-// Write writes the outputs. It first checks every target (see
-// CheckTargets) and writes nothing when one is refused. Each file is
-// written to a temporary file beside it and renamed into place.
+// Write writes the outputs, as WriteChanged does.
 func Write(outs []Output) error {
+	_, err := WriteChanged(outs)
+	return err
+}
+
+// WriteChanged writes the outputs whose file is missing or differs and
+// returns their paths; a file that already holds the output's bytes is
+// left untouched, modification time included. It first checks every
+// target (see CheckTargets) and writes nothing when one is refused. Each
+// file is written to a temporary file beside it and renamed into place.
+func WriteChanged(outs []Output) (written []string, err error) {
 	if err := CheckTargets(outs); err != nil {
-		return err
+		return nil, err
 	}
 	for _, o := range outs {
-		if err := writeAtomic(o.Path, o.Data); err != nil {
-			return err
+		if data, err := os.ReadFile(o.Path); err == nil && bytes.Equal(data, o.Data) {
+			continue
 		}
+		if err := writeAtomic(o.Path, o.Data); err != nil {
+			return written, err
+		}
+		written = append(written, displayPath(o.Path))
 	}
-	return nil
+	return written, nil
 }
 
 // CheckTargets refuses every output whose file exists without thalweg's
@@ -288,4 +300,80 @@ func Stale(outs []Output) []string {
 		}
 	}
 	return stale
+}
+
+// Orphan is a file that carries the header of a spec in this run but that
+// the spec no longer produces: left behind by a renamed minimizer or a
+// changed output.
+type Orphan struct {
+	Path string // the file, beside the spec's outputs
+	Spec string // the spec named in its header, relative to the file's directory
+}
+
+func (o Orphan) String() string {
+	return fmt.Sprintf("%s: orphan (generated from %s, no longer produced)", displayPath(o.Path), o.Spec)
+}
+
+// Orphans lists, sorted by path, the .go files in the directories the
+// outputs go to whose header names the spec of an output in the same
+// directory but that no output writes. A file without thalweg's header is
+// never an orphan, nor one generated from a spec not in outs.
+func Orphans(outs []Output) ([]Orphan, error) {
+	type dirSpec struct{ dir, spec string } // absolute directory, spec name
+	produced := map[string]bool{}           // absolute paths of the outputs
+	specs := map[dirSpec]bool{}
+	dirs := map[string]string{} // absolute directory → as the outputs name it
+	for _, o := range outs {
+		abs, err := filepath.Abs(o.Path)
+		if err != nil {
+			return nil, err
+		}
+		produced[abs] = true
+		if spec := headerSpec(o.Data); spec != "" {
+			specs[dirSpec{filepath.Dir(abs), spec}] = true
+			dirs[filepath.Dir(abs)] = filepath.Dir(o.Path)
+		}
+	}
+	var orphans []Orphan
+	for abs, dir := range dirs {
+		entries, err := os.ReadDir(abs)
+		if err != nil {
+			return nil, err
+		}
+		for _, e := range entries {
+			if !e.Type().IsRegular() || !strings.HasSuffix(e.Name(), ".go") || produced[filepath.Join(abs, e.Name())] {
+				continue
+			}
+			path := filepath.Join(dir, e.Name())
+			if spec, ok := fileHeaderSpec(path); ok && specs[dirSpec{abs, spec}] {
+				orphans = append(orphans, Orphan{Path: path, Spec: spec})
+			}
+		}
+	}
+	sort.Slice(orphans, func(i, j int) bool { return orphans[i].Path < orphans[j].Path })
+	return orphans, nil
+}
+
+// RemoveOrphans removes the orphans' files, each only when it still
+// carries the header naming its spec.
+func RemoveOrphans(orphans []Orphan) error {
+	for _, o := range orphans {
+		spec, ok := fileHeaderSpec(o.Path)
+		if !ok || spec != o.Spec {
+			return Problems{{Pos{displayPath(o.Path), 1, 1}, "not removed: the file no longer carries the header of " + o.Spec}}
+		}
+		if err := os.Remove(o.Path); err != nil {
+			return err
+		}
+	}
+	return nil
+}
+
+// fileHeaderSpec reads the spec name from a file's header.
+func fileHeaderSpec(path string) (string, bool) {
+	data, err := os.ReadFile(path)
+	if err != nil {
+		return "", false
+	}
+	return readHeader(data)
 }
