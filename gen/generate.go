@@ -306,12 +306,12 @@ func Stale(outs []Output) []string {
 // the spec no longer produces: left behind by a renamed minimizer or a
 // changed output.
 type Orphan struct {
-	Path string // the file, beside the spec's outputs
+	Path string // the file, beside the spec's outputs, relative to the working directory when below it
 	Spec string // the spec named in its header, relative to the file's directory
 }
 
 func (o Orphan) String() string {
-	return fmt.Sprintf("%s: orphan (generated from %s, no longer produced)", displayPath(o.Path), o.Spec)
+	return fmt.Sprintf("%s: orphan (generated from %s, no longer produced)", o.Path, o.Spec)
 }
 
 // Orphans lists, sorted by path, the .go files in the directories the
@@ -346,7 +346,7 @@ func Orphans(outs []Output) ([]Orphan, error) {
 			}
 			path := filepath.Join(dir, e.Name())
 			if spec, ok := fileHeaderSpec(path); ok && specs[dirSpec{abs, spec}] {
-				orphans = append(orphans, Orphan{Path: path, Spec: spec})
+				orphans = append(orphans, Orphan{Path: displayPath(path), Spec: spec})
 			}
 		}
 	}
@@ -354,19 +354,13 @@ func Orphans(outs []Output) ([]Orphan, error) {
 	return orphans, nil
 }
 
-// RemoveOrphans removes the orphans' files, each only when it still
-// carries the header naming its spec.
-func RemoveOrphans(orphans []Orphan) error {
-	for _, o := range orphans {
-		spec, ok := fileHeaderSpec(o.Path)
-		if !ok || spec != o.Spec {
-			return Problems{{Pos{displayPath(o.Path), 1, 1}, "not removed: the file no longer carries the header of " + o.Spec}}
-		}
-		if err := os.Remove(o.Path); err != nil {
-			return err
-		}
+// Remove deletes the orphan's file, only when it still carries the
+// header naming the orphan's spec.
+func (o Orphan) Remove() error {
+	if spec, ok := fileHeaderSpec(o.Path); !ok || spec != o.Spec {
+		return Problems{{Pos{o.Path, 1, 1}, "not deleted: the file no longer carries the header of " + o.Spec}}
 	}
-	return nil
+	return os.Remove(o.Path)
 }
 
 // fileHeaderSpec reads the spec name from a file's header.
