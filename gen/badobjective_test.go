@@ -157,6 +157,37 @@ x = 1.0`, []misfitWant{
 start = 1.0`, []misfitWant{
 		misfitInSpec(1, 13, "objective Missing: no such function in package bad"),
 	}},
+	{"objective typo", `objective = "ScalarOjb"
+start = 1.0`, []misfitWant{
+		misfitInSpec(1, 13, "objective ScalarOjb: no such function in package bad; did you mean ScalarObj?"),
+	}},
+	{"objective typo in case", `objective = "scalarobj"
+start = 1.0`, []misfitWant{
+		misfitInSpec(1, 13, "objective scalarobj: no such function in package bad; did you mean ScalarObj?"),
+	}},
+	{"objective is a method named alone", `objective = "Loss"
+start = [1.0, 2.0]`, []misfitWant{
+		misfitInSpec(1, 13, "objective Loss: no such function in package bad; did you mean Model.Loss?"),
+	}},
+	{"objective type typo", `objective = "Modle.Loss"
+start = [1.0, 2.0]`, []misfitWant{
+		misfitInSpec(1, 13, "objective Modle.Loss: no type Modle in package bad; did you mean Model?"),
+	}},
+	{"objective method typo", `objective = "Model.Los"
+start = [1.0, 2.0]`, []misfitWant{
+		misfitInSpec(1, 13, "objective Model.Los: type Model has no method Los; did you mean Loss?"),
+	}},
+	{"gradient method typo", `objective = "Model.Loss"
+derivative = "analytic"
+gradient = "Gard"
+start = [1.0, 2.0]`, []misfitWant{
+		misfitInSpec(3, 12, "gradient Gard: type Model has no method Gard; did you mean Grad?"),
+	}},
+	{"instance typo", `objective = "Model.Loss"
+instance = "DefaultModle"
+start = [1.0, 2.0]`, []misfitWant{
+		misfitInSpec(2, 12, "instance DefaultModle: no such variable or function in package bad; did you mean DefaultModel?"),
+	}},
 	{"objective is a var", `objective = "NotFunc"
 start = 1.0`, []misfitWant{
 		misfitInGo(15, 5, "objective NotFunc is not a function"),

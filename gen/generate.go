@@ -46,22 +46,25 @@ func Generate(specPaths []string) ([]Output, error) {
 }
 
 // Plans parses the specs and resolves every minimizer against its package.
+// A minimizer whose spec entry has problems is not resolved, but the
+// others are, so that one run reports the spec problems of some
+// minimizers together with the objective problems of the rest.
 func Plans(specPaths []string) ([]*Plan, error) {
 	var probs Problems
 	var specs []*Spec
 	for _, path := range specPaths {
 		spec, err := ParseSpec(path)
 		if err != nil {
-			if ps, ok := err.(Problems); ok {
-				probs = append(probs, ps...)
+			ps, ok := err.(Problems)
+			if !ok {
+				return nil, err
+			}
+			probs = append(probs, ps...)
+			if spec = validPart(spec); spec == nil {
 				continue
 			}
-			return nil, err
 		}
 		specs = append(specs, spec)
-	}
-	if err := probs.Err(); err != nil {
-		return nil, err
 	}
 	packages := map[string]*loadedPackage{}
 	var plans []*Plan
@@ -96,6 +99,27 @@ func Plans(specPaths []string) ([]*Plan, error) {
 		return nil, err
 	}
 	return plans, nil
+}
+
+// validPart keeps the minimizers of a spec with problems that had none
+// of their own, so their objectives are still resolved and their problems
+// reported in the same run; nil when the file as a whole has a problem
+// (package, unknown top-level keys) or no minimizer is left.
+func validPart(spec *Spec) *Spec {
+	if spec == nil || spec.problems > 0 {
+		return nil
+	}
+	valid := *spec
+	valid.Minimizers = nil
+	for _, m := range spec.Minimizers {
+		if m.Valid() {
+			valid.Minimizers = append(valid.Minimizers, m)
+		}
+	}
+	if len(valid.Minimizers) == 0 {
+		return nil
+	}
+	return &valid
 }
 
 // packageDirProblem says why dir cannot hold the objective's package.
@@ -176,19 +200,31 @@ func topLevelNames(src []byte) []string {
 	return names
 }
 
-// Write writes the outputs. It first checks every target (see
-// CheckTargets) and writes nothing when one is refused. Each file is
-// written to a temporary file beside it and renamed into place.
+// Write writes the outputs, as WriteChanged does.
 func Write(outs []Output) error {
+	_, err := WriteChanged(outs)
+	return err
+}
+
+// WriteChanged writes the outputs whose file is missing or differs and
+// returns their paths; a file that already holds the output's bytes is
+// left untouched, modification time included. It first checks every
+// target (see CheckTargets) and writes nothing when one is refused. Each
+// file is written to a temporary file beside it and renamed into place.
+func WriteChanged(outs []Output) (written []string, err error) {
 	if err := CheckTargets(outs); err != nil {
-		return err
+		return nil, err
 	}
 	for _, o := range outs {
-		if err := writeAtomic(o.Path, o.Data); err != nil {
-			return err
+		if data, err := os.ReadFile(o.Path); err == nil && bytes.Equal(data, o.Data) {
+			continue
 		}
+		if err := writeAtomic(o.Path, o.Data); err != nil {
+			return written, err
+		}
+		written = append(written, displayPath(o.Path))
 	}
-	return nil
+	return written, nil
 }
 
 // CheckTargets refuses every output whose file exists without thalweg's
@@ -246,4 +282,74 @@ func Stale(outs []Output) []string {
 		}
 	}
 	return stale
+}
+
+// Orphan is a file that carries the header of a spec in this run but that
+// the spec no longer produces: left behind by a renamed minimizer or a
+// changed output.
+type Orphan struct {
+	Path string // the file, beside the spec's outputs, relative to the working directory when below it
+	Spec string // the spec named in its header, relative to the file's directory
+}
+
+func (o Orphan) String() string {
+	return fmt.Sprintf("%s: orphan (generated from %s, no longer produced)", o.Path, o.Spec)
+}
+
+// Orphans lists, sorted by path, the .go files in the directories the
+// outputs go to whose header names the spec of an output in the same
+// directory but that no output writes. A file without thalweg's header is
+// never an orphan, nor one generated from a spec not in outs.
+func Orphans(outs []Output) ([]Orphan, error) {
+	type dirSpec struct{ dir, spec string } // absolute directory, spec name
+	produced := map[string]bool{}           // absolute paths of the outputs
+	specs := map[dirSpec]bool{}
+	dirs := map[string]string{} // absolute directory → as the outputs name it
+	for _, o := range outs {
+		abs, err := filepath.Abs(o.Path)
+		if err != nil {
+			return nil, err
+		}
+		produced[abs] = true
+		if spec := headerSpec(o.Data); spec != "" {
+			specs[dirSpec{filepath.Dir(abs), spec}] = true
+			dirs[filepath.Dir(abs)] = filepath.Dir(o.Path)
+		}
+	}
+	var orphans []Orphan
+	for abs, dir := range dirs {
+		entries, err := os.ReadDir(abs)
+		if err != nil {
+			return nil, err
+		}
+		for _, e := range entries {
+			if !e.Type().IsRegular() || !strings.HasSuffix(e.Name(), ".go") || produced[filepath.Join(abs, e.Name())] {
+				continue
+			}
+			path := filepath.Join(dir, e.Name())
+			if spec, ok := fileHeaderSpec(path); ok && specs[dirSpec{abs, spec}] {
+				orphans = append(orphans, Orphan{Path: displayPath(path), Spec: spec})
+			}
+		}
+	}
+	sort.Slice(orphans, func(i, j int) bool { return orphans[i].Path < orphans[j].Path })
+	return orphans, nil
+}
+
+// Remove deletes the orphan's file, only when it still carries the
+// header naming the orphan's spec.
+func (o Orphan) Remove() error {
+	if spec, ok := fileHeaderSpec(o.Path); !ok || spec != o.Spec {
+		return Problems{{Pos{o.Path, 1, 1}, "not deleted: the file no longer carries the header of " + o.Spec}}
+	}
+	return os.Remove(o.Path)
+}
+
+// fileHeaderSpec reads the spec name from a file's header.
+func fileHeaderSpec(path string) (string, bool) {
+	data, err := os.ReadFile(path)
+	if err != nil {
+		return "", false
+	}
+	return readHeader(data)
 }

@@ -300,7 +300,7 @@ func (lp *loadedPackage) lookupFunc(ref string, onType *types.Named, pos Pos, wh
 		obj := scope.Lookup(typeName)
 		tn, ok := obj.(*types.TypeName)
 		if !ok {
-			probs.add(pos, "%s %s: no type %s in package %s", what, ref, typeName, lp.pkg.Name)
+			probs.add(pos, "%s %s: no type %s in package %s%s", what, ref, typeName, lp.pkg.Name, didYouMean(typeName, lp.declared(isTypeName)))
 			return nil, nil
 		}
 		named, ok := types.Unalias(tn.Type()).(*types.Named)
@@ -318,14 +318,18 @@ func (lp *loadedPackage) lookupFunc(ref string, onType *types.Named, pos Pos, wh
 				probs.add(pos, "%s %s is a plain function; it must be a method of %s, like the objective", what, ref, typeName)
 				return nil, nil
 			}
-			probs.add(pos, "%s %s: type %s has no method %s", what, ref, typeName, method)
+			probs.add(pos, "%s %s: type %s has no method %s%s", what, ref, typeName, method, didYouMean(method, methodNames(named)))
 			return nil, nil
 		}
 		return sel.Obj().(*types.Func), named
 	}
 	obj := scope.Lookup(ref)
 	if obj == nil {
-		probs.add(pos, "%s %s: no such function in package %s", what, ref, lp.pkg.Name)
+		hint := didYouMean(ref, lp.declared(isFunc))
+		if hint == "" {
+			hint = lp.methodHint(ref)
+		}
+		probs.add(pos, "%s %s: no such function in package %s%s", what, ref, lp.pkg.Name, hint)
 		return nil, nil
 	}
 	fn, ok := obj.(*types.Func)
@@ -334,6 +338,60 @@ func (lp *loadedPackage) lookupFunc(ref string, onType *types.Named, pos Pos, wh
 		return nil, nil
 	}
 	return fn, nil
+}
+
+func isTypeName(o types.Object) bool { _, ok := o.(*types.TypeName); return ok }
+func isFunc(o types.Object) bool     { _, ok := o.(*types.Func); return ok }
+func isVarOrFunc(o types.Object) bool {
+	_, v := o.(*types.Var)
+	return v || isFunc(o)
+}
+
+// declared lists the package-level names of the user's files (not
+// thalweg's) whose object is of the kind wanted, for "did you mean".
+func (lp *loadedPackage) declared(kind func(types.Object) bool) []string {
+	scope := lp.pkg.Types.Scope()
+	var names []string
+	for _, name := range scope.Names() {
+		obj := scope.Lookup(name)
+		if kind(obj) && !lp.files[lp.pkg.Fset.Position(obj.Pos()).Filename] {
+			names = append(names, name)
+		}
+	}
+	return names
+}
+
+// methodNames lists the methods callable on a *T.
+func methodNames(named *types.Named) []string {
+	set := types.NewMethodSet(types.NewPointer(named))
+	names := make([]string, set.Len())
+	for i := range names {
+		names[i] = set.At(i).Obj().Name()
+	}
+	return names
+}
+
+// methodHint suggests "Type.Method" for a plain name that was not found
+// as a function but is close to a method of one of the user's types.
+func (lp *loadedPackage) methodHint(ref string) string {
+	owner := map[string]string{} // method name → "Type.Method", the first type in order
+	var methods []string
+	for _, name := range lp.declared(isTypeName) {
+		named, ok := types.Unalias(lp.pkg.Types.Scope().Lookup(name).Type()).(*types.Named)
+		if !ok || named.TypeParams().Len() > 0 {
+			continue
+		}
+		for _, m := range methodNames(named) {
+			if _, seen := owner[m]; !seen {
+				owner[m] = name + "." + m
+				methods = append(methods, m)
+			}
+		}
+	}
+	if m, ok := closest(ref, methods); ok {
+		return "; did you mean " + owner[m] + "?"
+	}
+	return ""
 }
 
 // floatKind returns "float32" or "float64" for exactly those types.
@@ -465,7 +523,7 @@ func (lp *loadedPackage) resolveInstance(m *Minimizer, shape *Shape, recvType *t
 			t, inst.Call = sig.Results().At(0).Type(), true
 		}
 	case nil:
-		probs.add(at("instance"), "instance %s: no such variable or function in package %s", m.Instance, lp.pkg.Name)
+		probs.add(at("instance"), "instance %s: no such variable or function in package %s%s", m.Instance, lp.pkg.Name, didYouMean(m.Instance, lp.declared(isVarOrFunc)))
 		return
 	}
 	want := types.Type(recvType)

@@ -1,15 +1,17 @@
 // Command thalweg writes allocation-free minimizers from TOML specs.
 //
 //	thalweg gen SPEC...     write the generated files
-//	thalweg check SPEC...   exit 1 when a generated file is missing or stale
+//	thalweg check SPEC...   exit 1 when a generated file is missing, stale or an orphan
 //	thalweg init OBJECTIVE  write a starter spec for an objective
 //	thalweg tune SPEC       rank every sensible direction × step rule
 //	thalweg trace SPEC      run a minimizer once and print its iterations
 //	thalweg rules           list directions, step rules and derivative sources
 //	thalweg version         print the version
+//	thalweg help [COMMAND]  print the overview, or a command's usage and flags
 //
-// Exit status: 0 on success, 1 when check finds stale files, 2 on any
-// spec, objective or usage error. Errors read path:line:col: message.
+// Exit status: 0 on success (help included), 1 when check names a file,
+// 2 on any spec, objective or usage error. Errors read path:line:col:
+// message. The commands' texts are in usage.go.
 package main
 
 import (
@@ -25,109 +27,154 @@ import (
 	"github.com/thalweg-go/thalweg/gen"
 )
 
-const usage = `usage:
-  thalweg gen SPEC...     write the minimizers each spec names, and their tests
-  thalweg check SPEC...   write nothing; exit 1 naming each missing or stale file
-  thalweg init OBJECTIVE [--out FILE]
-                        write a starter spec for "Func" or "Type.Method" of the
-                        package in FILE's directory (default ./<objective_in_snake_case>.toml)
-  thalweg tune SPEC [--name NAME]
-                        run every sensible direction × step rule from start, best first
-  thalweg trace SPEC [--name NAME] [--csv FILE] [--svg FILE]
-                        run the minimizer once from start, one row per iteration
-  thalweg rules           list directions, step rules and derivative sources
-  thalweg version         print thalweg's version
-`
-
 func main() {
 	os.Exit(run(os.Args[1:], os.Stdout, os.Stderr))
 }
 
 func run(args []string, stdout, stderr io.Writer) int {
 	flags := pflag.NewFlagSet("thalweg", pflag.ContinueOnError)
-	flags.SetOutput(stderr)
+	flags.SetOutput(io.Discard)
 	flags.Usage = func() {}
-	flags.SetInterspersed(false) // flags after the verb belong to the verb
+	flags.SetInterspersed(false) // flags after the command belong to the command
+	help := new(bool)
+	switchFlag(flags, help, "help", "h", "print the overview")
 	if err := flags.Parse(args); err != nil {
-		if errors.Is(err, pflag.ErrHelp) {
-			fmt.Fprint(stdout, usage)
-			return 0
-		}
-		fmt.Fprintf(stderr, "thalweg: %v\n%s", err, usage)
+		fmt.Fprintf(stderr, "thalweg: %v\n", err)
+		writeOverview(stderr)
 		return 2
 	}
 	if flags.NArg() == 0 {
-		fmt.Fprint(stderr, usage)
-		return 2
-	}
-	verb, rest := flags.Arg(0), flags.Args()[1:]
-	switch verb {
-	case "gen", "check":
-		verbFlags := pflag.NewFlagSet("thalweg "+verb, pflag.ContinueOnError)
-		verbFlags.SetOutput(io.Discard)
-		if err := verbFlags.Parse(rest); err != nil {
-			fmt.Fprintf(stderr, "thalweg %s: %v\n%s", verb, err, usage)
-			return 2
-		}
-		rest = verbFlags.Args()
-		if len(rest) == 0 {
-			fmt.Fprintf(stderr, "thalweg %s: name at least one spec file\n%s", verb, usage)
-			return 2
-		}
-		outs, err := gen.Generate(rest)
-		if err != nil {
-			return report(stderr, err)
-		}
-		if err := gen.CheckTargets(outs); err != nil {
-			return report(stderr, err)
-		}
-		if verb == "check" {
-			stale := gen.Stale(outs)
-			for _, s := range stale {
-				fmt.Fprintln(stderr, s)
-			}
-			if len(stale) > 0 {
-				fmt.Fprintln(stderr, "run thalweg gen to regenerate")
-				return 1
-			}
+		if *help {
+			writeOverview(stdout)
 			return 0
 		}
-		if err := gen.Write(outs); err != nil {
+		writeOverview(stderr)
+		return 2
+	}
+	c := lookupCommand(flags.Arg(0))
+	if c == nil {
+		fmt.Fprintf(stderr, "thalweg: unknown command %q\n", flags.Arg(0))
+		writeOverview(stderr)
+		return 2
+	}
+	if *help { // thalweg --help COMMAND
+		writeHelp(stdout, c)
+		return 0
+	}
+	var o options
+	verbFlags, verbHelp := c.flagSet(&o)
+	if err := verbFlags.Parse(flags.Args()[1:]); err != nil {
+		return usageError(stderr, c, "%v", err)
+	}
+	if *verbHelp {
+		writeHelp(stdout, c)
+		return 0
+	}
+	return c.run(c, verbFlags.Args(), &o, stdout, stderr)
+}
+
+// runHelp prints the overview, or one command's usage.
+func runHelp(c *command, args []string, _ *options, stdout, stderr io.Writer) int {
+	switch {
+	case len(args) == 0:
+		writeOverview(stdout)
+		return 0
+	case len(args) > 1:
+		return usageError(stderr, c, "name at most one command")
+	}
+	about := lookupCommand(args[0])
+	if about == nil {
+		return usageError(stderr, c, "unknown command %q", args[0])
+	}
+	writeHelp(stdout, about)
+	return 0
+}
+
+func runRules(c *command, args []string, _ *options, stdout, stderr io.Writer) int {
+	if len(args) != 0 {
+		return usageError(stderr, c, "takes no arguments")
+	}
+	gen.WriteRules(stdout)
+	return 0
+}
+
+func runVersion(c *command, args []string, _ *options, stdout, stderr io.Writer) int {
+	if len(args) != 0 {
+		return usageError(stderr, c, "takes no arguments")
+	}
+	fmt.Fprintln(stdout, "thalweg", gen.Version)
+	return 0
+}
+
+// runGenCheck runs gen and check: both generate every output and find the
+// orphans; check names what is to be done, gen does it.
+func runGenCheck(c *command, specs []string, o *options, stdout, stderr io.Writer) int {
+	if len(specs) == 0 {
+		return usageError(stderr, c, "name at least one spec file")
+	}
+	outs, err := gen.Generate(specs)
+	if err != nil {
+		return report(stderr, err)
+	}
+	if err := gen.CheckTargets(outs); err != nil {
+		return report(stderr, err)
+	}
+	orphans, err := gen.Orphans(outs)
+	if err != nil {
+		return report(stderr, err)
+	}
+	if c.name == "check" {
+		stale := gen.Stale(outs)
+		for _, s := range stale {
+			fmt.Fprintln(stderr, s)
+		}
+		for _, orphan := range orphans {
+			fmt.Fprintln(stderr, orphan)
+		}
+		switch {
+		case len(orphans) > 0 && len(stale) > 0:
+			fmt.Fprintln(stderr, "run thalweg gen --delete-orphans to regenerate and delete the orphans")
+		case len(orphans) > 0:
+			fmt.Fprintln(stderr, "run thalweg gen --delete-orphans to delete the orphans")
+		case len(stale) > 0:
+			fmt.Fprintln(stderr, "run thalweg gen to regenerate")
+		default:
+			return 0
+		}
+		return 1
+	}
+	written, err := gen.WriteChanged(outs)
+	for _, path := range written {
+		fmt.Fprintln(stdout, "wrote", path)
+	}
+	if err != nil {
+		return report(stderr, err)
+	}
+	if !o.deleteOrphans {
+		for _, orphan := range orphans {
+			fmt.Fprintln(stderr, orphan)
+		}
+		if len(orphans) > 0 {
+			fmt.Fprintln(stderr, "thalweg gen: orphans kept; run again with --delete-orphans to delete them")
+		}
+		return 0
+	}
+	for _, orphan := range orphans {
+		if err := orphan.Remove(); err != nil {
 			return report(stderr, err)
 		}
-		return 0
-	case "rules":
-		if len(rest) != 0 {
-			fmt.Fprint(stderr, usage)
-			return 2
-		}
-		gen.WriteRules(stdout)
-		return 0
-	case "version":
-		fmt.Fprintln(stdout, "thalweg", gen.Version)
-		return 0
-	case "init":
-		return runInit(rest, stdout, stderr)
-	case "trace":
-		return runTrace(rest, stdout, stderr)
-	case "tune":
-		return runTune(rest, stdout, stderr)
+		fmt.Fprintln(stdout, "deleted", orphan.Path)
 	}
-	fmt.Fprintf(stderr, "thalweg: unknown command %q\n%s", verb, usage)
-	return 2
+	return 0
 }
 
 // runInit writes a starter spec; it never overwrites a file.
-func runInit(args []string, stdout, stderr io.Writer) int {
-	flags := pflag.NewFlagSet("thalweg init", pflag.ContinueOnError)
-	flags.SetOutput(io.Discard)
-	out := flags.String("out", "", "spec file to write (default ./<objective_in_snake_case>.toml)")
-	if err := flags.Parse(args); err != nil || flags.NArg() != 1 {
-		fmt.Fprintf(stderr, "thalweg init: name one objective, \"Func\" or \"Type.Method\"\n%s", usage)
-		return 2
+func runInit(c *command, args []string, o *options, stdout, stderr io.Writer) int {
+	if len(args) != 1 {
+		return usageError(stderr, c, "name one objective, \"Func\" or \"Type.Method\"")
 	}
-	ref := flags.Arg(0)
-	path := *out
+	ref := args[0]
+	path := o.out
 	if path == "" {
 		path = gen.StarterPath(ref)
 	}
@@ -160,8 +207,8 @@ func runInit(args []string, stdout, stderr io.Writer) int {
 
 // runTune ranks the sensible policies on the spec's objective and start;
 // the package itself is not written to.
-func runTune(args []string, stdout, stderr io.Writer) int {
-	plan, code := choosePlan("tune", args, stderr, nil)
+func runTune(c *command, args []string, o *options, stdout, stderr io.Writer) int {
+	plan, code := choosePlan(c, args, o, stderr)
 	if plan == nil {
 		return code
 	}
@@ -175,20 +222,13 @@ func runTune(args []string, stdout, stderr io.Writer) int {
 	return 0
 }
 
-// choosePlan parses SPEC [--name NAME] and the verb's own flags, and
-// resolves the minimizer; on failure it reports and returns the exit code.
-func choosePlan(verb string, args []string, stderr io.Writer, more func(*pflag.FlagSet)) (*gen.Plan, int) {
-	flags := pflag.NewFlagSet("thalweg "+verb, pflag.ContinueOnError)
-	flags.SetOutput(io.Discard)
-	name := flags.String("name", "", "minimizer to use (needed when the spec has several)")
-	if more != nil {
-		more(flags)
+// choosePlan resolves the minimizer of SPEC that --name names; on failure
+// it reports and returns the exit code.
+func choosePlan(c *command, args []string, o *options, stderr io.Writer) (*gen.Plan, int) {
+	if len(args) != 1 {
+		return nil, usageError(stderr, c, "name one spec")
 	}
-	if err := flags.Parse(args); err != nil || flags.NArg() != 1 {
-		fmt.Fprintf(stderr, "thalweg %s: name one spec\n%s", verb, usage)
-		return nil, 2
-	}
-	plan, err := gen.SelectPlan(flags.Arg(0), *name)
+	plan, err := gen.SelectPlan(args[0], o.name)
 	if err != nil {
 		return nil, report(stderr, err)
 	}
@@ -197,12 +237,8 @@ func choosePlan(verb string, args []string, stderr io.Writer, more func(*pflag.F
 
 // runTrace runs one minimizer from its start and prints its iterations;
 // the package itself is not written to.
-func runTrace(args []string, stdout, stderr io.Writer) int {
-	var csvPath, svgPath *string
-	plan, code := choosePlan("trace", args, stderr, func(flags *pflag.FlagSet) {
-		csvPath = flags.String("csv", "", "also write the rows to this CSV file")
-		svgPath = flags.String("svg", "", "also draw the convergence chart to this SVG file")
-	})
+func runTrace(c *command, args []string, o *options, stdout, stderr io.Writer) int {
+	plan, code := choosePlan(c, args, o, stderr)
 	if plan == nil {
 		return code
 	}
@@ -217,8 +253,8 @@ func runTrace(args []string, stdout, stderr io.Writer) int {
 		path  string
 		write func(io.Writer) error
 	}{
-		{*csvPath, func(w io.Writer) error { return gen.WriteTraceCSV(w, res) }},
-		{*svgPath, func(w io.Writer) error { return gen.WriteTraceSVG(w, plan, res) }},
+		{o.csv, func(w io.Writer) error { return gen.WriteTraceCSV(w, res) }},
+		{o.svg, func(w io.Writer) error { return gen.WriteTraceSVG(w, plan, res) }},
 	} {
 		if out.path == "" {
 			continue

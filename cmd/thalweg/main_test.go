@@ -12,6 +12,7 @@ import (
 	"strconv"
 	"strings"
 	"testing"
+	"time"
 
 	"github.com/thalweg-go/thalweg/gen"
 	"github.com/thalweg-go/thalweg/rules"
@@ -321,7 +322,7 @@ objective = "GainCost"
 	if code != 2 {
 		t.Fatalf("gen with a bad second spec exited %d, want 2:\n%s", code, stderr)
 	}
-	if got := problemLines(t, stderr); len(got) != 1 || got[0] != filepath.Join("other", "other.toml")+":3:13: objective Lost: no such function in package other" {
+	if got := problemLines(t, stderr); len(got) != 1 || got[0] != filepath.Join("other", "other.toml")+":3:13: objective Lost: no such function in package other; did you mean Loss?" {
 		t.Errorf("stderr = %q", got)
 	}
 	if d := sameFiles(before, snapshot(t, root)); d != "" {
@@ -361,25 +362,102 @@ output = "handwritten.go"
 	}
 }
 
+// Usage errors exit 2 with the command's short usage on stderr, or the
+// overview when there is no command to speak of.
 func TestUsageErrors(t *testing.T) {
-	for _, args := range [][]string{
-		nil,
-		{"frobnicate"},
-		{"gen"},
-		{"check"},
-		{"rules", "extra"},
-		{"--bogus"},
-		{"gen", "x.toml", "--bogus"},
+	for _, c := range []struct {
+		args []string
+		want string // on stderr
+	}{
+		{nil, "thalweg gen SPEC..."},
+		{[]string{"frobnicate"}, `thalweg: unknown command "frobnicate"`},
+		{[]string{"--bogus"}, "thalweg: unknown flag: --bogus"},
+		{[]string{"gen"}, "thalweg gen: name at least one spec file"},
+		{[]string{"check"}, "thalweg check: name at least one spec file"},
+		{[]string{"gen", "x.toml", "--bogus"}, "thalweg gen: unknown flag: --bogus"},
+		{[]string{"gen", "--delete-orphans=maybe", "x.toml"}, "thalweg gen: invalid argument"},
+		{[]string{"init"}, "thalweg init: name one objective"},
+		{[]string{"init", "F", "--out"}, "thalweg init: flag needs an argument: --out"},
+		{[]string{"tune"}, "thalweg tune: name one spec"},
+		{[]string{"trace", "a.toml", "b.toml"}, "thalweg trace: name one spec"},
+		{[]string{"rules", "extra"}, "thalweg rules: takes no arguments"},
+		{[]string{"version", "extra"}, "thalweg version: takes no arguments"},
+		{[]string{"help", "frobnicate"}, `thalweg help: unknown command "frobnicate"`},
+		{[]string{"help", "gen", "check"}, "thalweg help: name at most one command"},
 	} {
-		code, stdout, stderr := thalweg(args...)
+		code, stdout, stderr := thalweg(c.args...)
 		if code != 2 {
-			t.Errorf("thalweg %q exited %d, want 2", args, code)
+			t.Errorf("thalweg %q exited %d, want 2", c.args, code)
 		}
-		if !strings.Contains(stderr, "usage:") || !strings.Contains(stderr, "thalweg gen SPEC...") {
-			t.Errorf("thalweg %q: stderr lacks the usage:\n%s", args, stderr)
+		if !strings.Contains(stderr, c.want) {
+			t.Errorf("thalweg %q: stderr lacks %q:\n%s", c.args, c.want, stderr)
+		}
+		usage := "usage:\n  thalweg gen SPEC..." // the overview
+		if len(c.args) > 0 && lookupCommand(c.args[0]) != nil {
+			usage = "usage: " + lookupCommand(c.args[0]).usageLine() + "\nRun \"thalweg help " + c.args[0] + "\""
+		}
+		if !strings.Contains(stderr, usage) {
+			t.Errorf("thalweg %q: stderr lacks the usage %q:\n%s", c.args, usage, stderr)
 		}
 		if stdout != "" {
-			t.Errorf("thalweg %q wrote to stdout:\n%s", args, stdout)
+			t.Errorf("thalweg %q wrote to stdout:\n%s", c.args, stdout)
+		}
+	}
+}
+
+// Every form of help exits 0 and prints to stdout: the overview, or the
+// command's usage line, description, arguments and every flag.
+func TestHelp(t *testing.T) {
+	flagsOf := map[string][]string{
+		"gen":     {"--delete-orphans", "SPEC..."},
+		"check":   {"SPEC..."},
+		"init":    {"--out FILE", "OBJECTIVE"},
+		"tune":    {"--name NAME", "SPEC"},
+		"trace":   {"--name NAME", "--csv FILE", "--svg FILE", "SPEC"},
+		"rules":   nil,
+		"version": nil,
+		"help":    {"COMMAND"},
+	}
+	if len(flagsOf) != len(commands) {
+		t.Errorf("the test covers %d commands, the CLI has %d", len(flagsOf), len(commands))
+	}
+	check := func(args []string, want ...string) {
+		t.Helper()
+		code, stdout, stderr := thalweg(args...)
+		if code != 0 || stderr != "" {
+			t.Errorf("thalweg %q exited %d, stderr:\n%s", args, code, stderr)
+		}
+		for _, w := range want {
+			if !strings.Contains(stdout, w) {
+				t.Errorf("thalweg %q: stdout lacks %q:\n%s", args, w, stdout)
+			}
+		}
+		if strings.Contains(stdout, "pflag") || strings.Contains(stdout, "[=true|false]") {
+			t.Errorf("thalweg %q: stdout shows pflag's own texts:\n%s", args, stdout)
+		}
+	}
+	overview := []string{"usage:\n"}
+	for _, c := range commands {
+		overview = append(overview, "\n  "+c.usageLine()+"\n      "+c.summary+"\n")
+	}
+	for _, args := range [][]string{{"help"}, {"--help"}, {"-h"}} {
+		check(args, overview...)
+	}
+	for _, c := range commands {
+		want := append([]string{
+			"usage: " + c.usageLine() + "\n\n" + upperFirst(c.summary) + ".\n",
+			"\nflags:\n",
+			"  -h, --help ",
+		}, flagsOf[c.name]...)
+		for _, args := range [][]string{
+			{"help", c.name},
+			{c.name, "-h"},
+			{c.name, "--help"},
+			{"--help", c.name},
+			{"-h", c.name},
+			{c.name, "extra", "arguments", "-h"}, // help wins over a misuse
+		} {
+			check(args, want...)
 		}
 	}
 }
@@ -428,15 +506,6 @@ func keys(m map[string]string) []string {
 	}
 	sort.Strings(ks)
 	return ks
-}
-
-func TestHelpExitsZero(t *testing.T) {
-	for _, flag := range []string{"-h", "--help"} {
-		code, stdout, _ := thalweg(flag)
-		if code != 0 || !strings.Contains(stdout, "thalweg gen SPEC...") {
-			t.Errorf("thalweg %s exited %d, want 0 with the usage on stdout:\n%s", flag, code, stdout)
-		}
-	}
 }
 
 // A user declaration that clashes with a generated name is one line at
@@ -645,4 +714,188 @@ func reverseString(s string) string {
 		r[i], r[j] = r[j], r[i]
 	}
 	return string(r)
+}
+
+// gen prints one "wrote PATH" line per file it writes and leaves files
+// that already hold the right bytes untouched, modification time included.
+func TestGenReportsWritesAndKeepsIdenticalFiles(t *testing.T) {
+	quickstartModule(t)
+	code, stdout, stderr := thalweg("gen", "quickstart.toml")
+	if code != 0 || stderr != "" {
+		t.Fatalf("gen exited %d:\n%s", code, stderr)
+	}
+	want := "wrote tune_gain_min.go\nwrote tune_gain_min_test.go\nwrote calibrate_min.go\nwrote calibrate_min_test.go\n"
+	if stdout != want {
+		t.Errorf("first gen printed\n%swant\n%s", stdout, want)
+	}
+
+	old := time.Now().Add(-time.Hour).Truncate(time.Second)
+	for _, name := range quickstartOutputs {
+		if err := os.Chtimes(name, old, old); err != nil {
+			t.Fatal(err)
+		}
+	}
+	modTimes := func() map[string]time.Time {
+		times := map[string]time.Time{}
+		for _, name := range quickstartOutputs {
+			info, err := os.Stat(name)
+			if err != nil {
+				t.Fatal(err)
+			}
+			times[name] = info.ModTime()
+		}
+		return times
+	}
+
+	code, stdout, stderr = thalweg("gen", "quickstart.toml")
+	if code != 0 || stdout != "" || stderr != "" {
+		t.Errorf("gen over fresh files exited %d, stdout %q, stderr %q; want 0 and silence", code, stdout, stderr)
+	}
+	for name, mt := range modTimes() {
+		if !mt.Equal(old) {
+			t.Errorf("gen touched the identical file %s", name)
+		}
+	}
+
+	data, err := os.ReadFile("calibrate_min.go")
+	if err != nil {
+		t.Fatal(err)
+	}
+	writeFile(t, "calibrate_min.go", string(data)+"// edited\n")
+	if err := os.Chtimes("calibrate_min.go", old, old); err != nil {
+		t.Fatal(err)
+	}
+	code, stdout, stderr = thalweg("gen", "quickstart.toml")
+	if code != 0 || stdout != "wrote calibrate_min.go\n" || stderr != "" {
+		t.Errorf("gen over one edited file exited %d, stdout %q, stderr %q; want only that file written", code, stdout, stderr)
+	}
+	for name, mt := range modTimes() {
+		if mt.Equal(old) != (name != "calibrate_min.go") {
+			t.Errorf("%s: modification time %v, old %v", name, mt, old)
+		}
+	}
+	if got, _ := os.ReadFile("calibrate_min.go"); string(got) != string(data) {
+		t.Errorf("gen did not restore calibrate_min.go")
+	}
+}
+
+// After a minimizer is renamed, its old files are orphans: check names
+// them and exits 1, gen keeps them unless --delete-orphans is given, and
+// files without the spec's header are never deleted.
+func TestOrphansAfterRename(t *testing.T) {
+	root := quickstartModule(t)
+	if code, _, stderr := thalweg("gen", "quickstart.toml"); code != 0 {
+		t.Fatalf("gen exited %d:\n%s", code, stderr)
+	}
+	writeFile(t, "hand.go", "package quickstart\n\n// Written by hand.\n")
+	writeFile(t, "other_min.go", "// Code generated by thalweg from other.toml; DO NOT EDIT.\n\npackage quickstart\n")
+	writeFile(t, "late.go", "package quickstart\n\n// Code generated by thalweg from quickstart.toml; DO NOT EDIT.\n")
+	spec, err := os.ReadFile("quickstart.toml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	renamed := strings.Replace(string(spec), `name = "TuneGain"`, `name = "SetGain"`, 1)
+	if renamed == string(spec) {
+		t.Fatal("quickstart.toml has no minimizer TuneGain to rename")
+	}
+	writeFile(t, "quickstart.toml", renamed)
+	orphans := []string{
+		"tune_gain_min.go: orphan (generated from quickstart.toml, no longer produced)",
+		"tune_gain_min_test.go: orphan (generated from quickstart.toml, no longer produced)",
+	}
+
+	before := snapshot(t, root)
+	code, stdout, stderr := thalweg("check", "quickstart.toml")
+	want := strings.Join(append(append([]string{"set_gain_min.go: missing", "set_gain_min_test.go: missing"}, orphans...),
+		"run thalweg gen --delete-orphans to regenerate and delete the orphans"), "\n") + "\n"
+	if code != 1 || stdout != "" || stderr != want {
+		t.Errorf("check after the rename exited %d, stderr\n%swant 1 and\n%s", code, stderr, want)
+	}
+	if d := sameFiles(before, snapshot(t, root)); d != "" {
+		t.Errorf("check changed files: %s", d)
+	}
+
+	code, stdout, stderr = thalweg("gen", "quickstart.toml")
+	want = strings.Join(append(orphans, "thalweg gen: orphans kept; run again with --delete-orphans to delete them"), "\n") + "\n"
+	if code != 0 || stdout != "wrote set_gain_min.go\nwrote set_gain_min_test.go\n" || stderr != want {
+		t.Errorf("gen after the rename exited %d, stdout\n%sstderr\n%swant 0 and\n%s", code, stdout, stderr, want)
+	}
+	for _, name := range []string{"tune_gain_min.go", "tune_gain_min_test.go"} {
+		if _, err := os.Stat(name); err != nil {
+			t.Errorf("gen without --delete-orphans deleted %s", name)
+		}
+	}
+
+	code, _, stderr = thalweg("check", "quickstart.toml")
+	want = strings.Join(append(orphans, "run thalweg gen --delete-orphans to delete the orphans"), "\n") + "\n"
+	if code != 1 || stderr != want {
+		t.Errorf("check with orphans only exited %d, stderr\n%swant 1 and\n%s", code, stderr, want)
+	}
+
+	before = snapshot(t, root)
+	code, stdout, stderr = thalweg("gen", "quickstart.toml", "--delete-orphans")
+	if code != 0 || stdout != "deleted tune_gain_min.go\ndeleted tune_gain_min_test.go\n" || stderr != "" {
+		t.Errorf("gen --delete-orphans exited %d, stdout %q, stderr %q", code, stdout, stderr)
+	}
+	after := snapshot(t, root)
+	if d := sameFiles(before, after); d != "qs/tune_gain_min.go removed, qs/tune_gain_min_test.go removed" {
+		t.Errorf("gen --delete-orphans changed: %s", d)
+	}
+	if code, _, stderr := thalweg("check", "quickstart.toml"); code != 0 {
+		t.Errorf("check after deleting the orphans exited %d:\n%s", code, stderr)
+	}
+}
+
+// An objective name with a typo is reported at the spec's value with the
+// closest name the package declares.
+func TestObjectiveTypoSuggestsName(t *testing.T) {
+	quickstartModule(t)
+	writeFile(t, "typo.toml", `[[minimizer]]
+name = "Tune"
+objective = "GainCots"
+start = 1.0
+`)
+	code, _, stderr := thalweg("gen", "typo.toml")
+	want := "typo.toml:3:13: objective GainCots: no such function in package quickstart; did you mean GainCost?\n"
+	if code != 2 || stderr != want {
+		t.Errorf("gen with an objective typo exited %d, stderr\n%swant 2 and\n%s", code, stderr, want)
+	}
+}
+
+// Spec errors of one minimizer and objective errors of others, in the
+// same spec or another, come in one run, sorted by file and position.
+func TestSpecAndObjectiveErrorsInOneRun(t *testing.T) {
+	root := quickstartModule(t)
+	writeFile(t, "bad.toml", `[[minimizer]]
+name = "Tune"
+objective = "GainCots"
+start = 1.0
+
+[[minimizer]]
+name = "Calib"
+objective = "CalibrationError"
+start = [1.0, 1.0]
+[minimizer.step]
+shrink = 1.5
+`)
+	writeFile(t, "worse.toml", `[[minimizer]]
+name = "Raw"
+objective = "rawReadings"
+start = 1.0
+`)
+	before := snapshot(t, root)
+	for _, verb := range []string{"gen", "check"} {
+		code, _, stderr := thalweg(verb, "bad.toml", "quickstart.toml", "worse.toml")
+		want := []string{
+			"bad.toml:3:13: objective GainCots: no such function in package quickstart; did you mean GainCost?",
+			"bad.toml:11:10: step.shrink must be in (0, 1), got 1.5",
+			"quickstart.go:18:2: objective rawReadings is not a function",
+		}
+		if got := problemLines(t, stderr); code != 2 || strings.Join(got, "\n") != strings.Join(want, "\n") {
+			t.Errorf("%s exited %d, stderr\n%s\nwant 2 and\n%s", verb, code, strings.Join(got, "\n"), strings.Join(want, "\n"))
+		}
+	}
+	if d := sameFiles(before, snapshot(t, root)); d != "" {
+		t.Errorf("a run with errors changed files: %s", d)
+	}
 }
