@@ -243,8 +243,12 @@ func entryDoc(p *Plan) []string {
 	if cost := p.GradientCalls(); cost > 0 {
 		perGradient = fmt.Sprintf(", %d of them per gradient", cost)
 	}
+	why := fmt.Sprintf("the evaluation cap; the iteration limit alone would allow %d", byIter)
+	if byIter < int(p.Value(rules.StopEvaluations)) {
+		why = fmt.Sprintf("the bound the iteration limit sets, below the evaluation cap of %d", int(p.Value(rules.StopEvaluations)))
+	}
 	lines = append(lines, "",
-		fmt.Sprintf("Worst case: %d objective calls%s (the evaluation cap; the iteration limit alone would allow %d). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.", worst, perGradient, byIter),
+		fmt.Sprintf("Worst case: %d objective calls%s (%s). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.", worst, perGradient, why),
 		"Check Status.Converged() before acting on X.")
 	return lines
 }

@@ -29,8 +29,8 @@ var (
 		Doc: "curvature constant c2 in (c1, 1); 0.9 for quasi-Newton, 0.1 for cg (Nocedal & Wright 2006, §3.1)"})
 	// Trials caps the trial points of one line search.
 	Trials = param(&Param{Table: "step", Key: "trials", Const: "stepTrials", Kind: Whole,
-		Default: 40, Low: 1, High: 1000,
-		Doc:     "most trial points (objective values) in one line search; 40 halvings span 12 decades (common practice)",
+		Low: 1, High: 1000, DefaultFor: trialsDefault,
+		Doc:     "most trial points (objective values) in one line search; default 1 + ⌈ln(max(stop.step, u)/initial)/ln(shrink)⌉, enough shrinks to go from the first trial to the step limit (shrink 1/2 for the Wolfe rules): 48 for float64, 21 for float32 at the other defaults",
 		ShownAs: func(v float64) string { return fmt.Sprintf("at most %d trials per line search", int64(v)) }})
 	// Interpolate switches backtracking from a fixed shrink to safeguarded
 	// quadratic then cubic interpolation.

@@ -90,3 +90,35 @@ func TestRegistryIsConsistent(t *testing.T) {
 		}
 	}
 }
+
+// The default trials cover the shrinks from the first trial to the step
+// limit: 2⁻⁴⁶·⁵ ≈ 1e-14 (float64) and 2⁻¹⁹·⁹ ≈ 1e-6 (float32), one trial more
+// for the first.
+func TestTrialsDefault(t *testing.T) {
+	cases := []struct {
+		elem  string
+		rule  *Entry
+		given map[*Param]float64
+		want  float64
+	}{
+		{"float64", ArmijoRule, nil, 48},
+		{"float32", ArmijoRule, nil, 21},
+		{"float64", WolfeRule, nil, 48},
+		{"float64", ArmijoRule, map[*Param]float64{Shrink: 0.1}, 15},
+		{"float64", ArmijoRule, map[*Param]float64{Initial: 0.25}, 46},
+		{"float64", ArmijoRule, map[*Param]float64{StopStep: 0}, 1 + 53},
+		{"float64", ArmijoRule, map[*Param]float64{Initial: 1e-20}, 1},
+	}
+	for _, c := range cases {
+		ctx := &Context{Elem: c.elem, Dim: 2, Derivative: Central, Direction: BFGS, Rule: c.rule}
+		ctx.Value = func(p *Param) float64 {
+			if v, ok := c.given[p]; ok {
+				return v
+			}
+			return ctx.DefaultValue(p)
+		}
+		if got := ctx.DefaultValue(Trials); got != c.want {
+			t.Errorf("%s %s %v: trials default %v, want %v", c.elem, c.rule.Name, c.given, got, c.want)
+		}
+	}
+}

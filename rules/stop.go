@@ -1,5 +1,7 @@
 package rules
 
+import "math"
+
 // gradientDefault is the default gradient limit. It sits well above the
 // error of the gradient, or no step could show progress near a minimizer:
 // differences err by about √u (forward) and u^(2/3) (central) relative to
@@ -20,4 +22,26 @@ func stepDefault(c *Context) float64 {
 		return 1e-6
 	}
 	return 1e-14
+}
+
+// trialsDefault is the default number of trials in one line search:
+// enough shrinks to go from the first trial step to the step limit, below
+// which the search ends anyway,
+//
+//	trials = 1 + ⌈ln(max(stop.step, u)/initial) / ln(shrink)⌉,
+//
+// clamped to [1, 1000], with u the unit roundoff (no step limit below it
+// can be resolved). The Wolfe rules read no shrink: their zoom keeps each
+// trial a tenth of the bracket from either end and usually halves it, so
+// 1/2 stands for their shrink. With the defaults this is 48 for float64
+// (stop.step 1e-14) and 21 for float32 (1e-6).
+func trialsDefault(c *Context) float64 {
+	shrink := 0.5
+	if c.Rule != nil && c.Rule.Reads(Shrink) {
+		shrink = c.Value(Shrink)
+	}
+	limit := math.Max(c.Value(StopStep), Roundoff(c.Elem))
+	shrinks := math.Log(limit/c.Value(Initial)) / math.Log(shrink)
+	n := 1 + math.Ceil(shrinks-1e-9) // an exact power (1e-14 = 0.1¹⁴) needs no extra shrink for the logarithms' rounding
+	return math.Min(math.Max(n, 1), 1000)
 }

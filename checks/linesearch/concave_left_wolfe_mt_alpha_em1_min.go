@@ -87,10 +87,10 @@ func ConcaveLeftWolfeMTAlphaEm1DefaultLimits() ConcaveLeftWolfeMTAlphaEm1Limits 
 // Direction steepest: steepest descent, d = −∇f; no memory, linear convergence.
 // Step rule wolfe: bracket and zoom until sufficient decrease and the curvature condition hold.
 // Derivative analytic: the user's own gradient function (spec key `gradient`); costs no objective calls.
-// Constants: initial 195802.00501253133, c1 0.01, c2 0.1, at most 40 trials per line search.
+// Constants: initial 195802.00501253133, c1 0.01, c2 0.1, at most 66 trials per line search.
 // Default stop: largest gradient component ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 500 iterations, 10000 objective calls.
 //
-// Worst case: 10000 objective calls (the evaluation cap; the iteration limit alone would allow 20001). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
+// Worst case: 10000 objective calls (the evaluation cap; the iteration limit alone would allow 33001). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
 func ConcaveLeftWolfeMTAlphaEm1(x0 float64) ConcaveLeftWolfeMTAlphaEm1Result {
 	return ConcaveLeftWolfeMTAlphaEm1WithLimits(x0, ConcaveLeftWolfeMTAlphaEm1DefaultLimits())
@@ -113,7 +113,7 @@ const (
 	concaveLeftWolfeMTAlphaEm1StepInitial    = 195802.00501253133     // step.initial
 	concaveLeftWolfeMTAlphaEm1StepDecrease   = 0.01                   // step.decrease (c1)
 	concaveLeftWolfeMTAlphaEm1StepCurvature  = 0.1                    // step.curvature (c2)
-	concaveLeftWolfeMTAlphaEm1StepTrials     = 40                     // step.trials
+	concaveLeftWolfeMTAlphaEm1StepTrials     = 66                     // step.trials
 	concaveLeftWolfeMTAlphaEm1DerivativeCost = 0                      // objective calls per gradient
 	concaveLeftWolfeMTAlphaEm1UnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
 	concaveLeftWolfeMTAlphaEm1LargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type

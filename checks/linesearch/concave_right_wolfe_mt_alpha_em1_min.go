@@ -87,10 +87,10 @@ func ConcaveRightWolfeMTAlphaEm1DefaultLimits() ConcaveRightWolfeMTAlphaEm1Limit
 // Direction steepest: steepest descent, d = −∇f; no memory, linear convergence.
 // Step rule wolfe: bracket and zoom until sufficient decrease and the curvature condition hold.
 // Derivative analytic: the user's own gradient function (spec key `gradient`); costs no objective calls.
-// Constants: initial 0.2, c1 0.001, c2 0.1, at most 40 trials per line search.
+// Constants: initial 0.2, c1 0.001, c2 0.1, at most 46 trials per line search.
 // Default stop: largest gradient component ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 500 iterations, 10000 objective calls.
 //
-// Worst case: 10000 objective calls (the evaluation cap; the iteration limit alone would allow 20001). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
+// Worst case: 10000 objective calls (the evaluation cap; the iteration limit alone would allow 23001). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
 func ConcaveRightWolfeMTAlphaEm1(x0 float64) ConcaveRightWolfeMTAlphaEm1Result {
 	return ConcaveRightWolfeMTAlphaEm1WithLimits(x0, ConcaveRightWolfeMTAlphaEm1DefaultLimits())
@@ -113,7 +113,7 @@ const (
 	concaveRightWolfeMTAlphaEm1StepInitial    = 0.2                    // step.initial
 	concaveRightWolfeMTAlphaEm1StepDecrease   = 0.001                  // step.decrease (c1)
 	concaveRightWolfeMTAlphaEm1StepCurvature  = 0.1                    // step.curvature (c2)
-	concaveRightWolfeMTAlphaEm1StepTrials     = 40                     // step.trials
+	concaveRightWolfeMTAlphaEm1StepTrials     = 46                     // step.trials
 	concaveRightWolfeMTAlphaEm1DerivativeCost = 0                      // objective calls per gradient
 	concaveRightWolfeMTAlphaEm1UnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
 	concaveRightWolfeMTAlphaEm1LargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type

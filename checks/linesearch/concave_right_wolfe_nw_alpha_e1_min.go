@@ -87,10 +87,10 @@ func ConcaveRightWolfeNWAlphaE1DefaultLimits() ConcaveRightWolfeNWAlphaE1Limits 
 // Direction steepest: steepest descent, d = −∇f; no memory, linear convergence.
 // Step rule wolfe: bracket and zoom until sufficient decrease and the curvature condition hold.
 // Derivative analytic: the user's own gradient function (spec key `gradient`); costs no objective calls.
-// Constants: initial 20.0, c1 0.0001, c2 0.9, at most 40 trials per line search.
+// Constants: initial 20.0, c1 0.0001, c2 0.9, at most 52 trials per line search.
 // Default stop: largest gradient component ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 500 iterations, 10000 objective calls.
 //
-// Worst case: 10000 objective calls (the evaluation cap; the iteration limit alone would allow 20001). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
+// Worst case: 10000 objective calls (the evaluation cap; the iteration limit alone would allow 26001). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
 func ConcaveRightWolfeNWAlphaE1(x0 float64) ConcaveRightWolfeNWAlphaE1Result {
 	return ConcaveRightWolfeNWAlphaE1WithLimits(x0, ConcaveRightWolfeNWAlphaE1DefaultLimits())
@@ -113,7 +113,7 @@ const (
 	concaveRightWolfeNWAlphaE1StepInitial    = 20.0                   // step.initial
 	concaveRightWolfeNWAlphaE1StepDecrease   = 0.0001                 // step.decrease (c1)
 	concaveRightWolfeNWAlphaE1StepCurvature  = 0.9                    // step.curvature (c2)
-	concaveRightWolfeNWAlphaE1StepTrials     = 40                     // step.trials
+	concaveRightWolfeNWAlphaE1StepTrials     = 52                     // step.trials
 	concaveRightWolfeNWAlphaE1DerivativeCost = 0                      // objective calls per gradient
 	concaveRightWolfeNWAlphaE1UnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
 	concaveRightWolfeNWAlphaE1LargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type

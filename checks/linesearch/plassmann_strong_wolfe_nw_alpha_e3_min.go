@@ -87,10 +87,10 @@ func PlassmannStrongWolfeNWAlphaE3DefaultLimits() PlassmannStrongWolfeNWAlphaE3L
 // Direction steepest: steepest descent, d = −∇f; no memory, linear convergence.
 // Step rule strong-wolfe: bracket and zoom until sufficient decrease and the strong curvature condition hold.
 // Derivative analytic: the user's own gradient function (spec key `gradient`); costs no objective calls.
-// Constants: initial 99999.99999999991, c1 0.0001, c2 0.9, at most 40 trials per line search.
+// Constants: initial 99999.99999999991, c1 0.0001, c2 0.9, at most 65 trials per line search.
 // Default stop: largest gradient component ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 500 iterations, 10000 objective calls.
 //
-// Worst case: 10000 objective calls (the evaluation cap; the iteration limit alone would allow 20001). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
+// Worst case: 10000 objective calls (the evaluation cap; the iteration limit alone would allow 32501). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
 func PlassmannStrongWolfeNWAlphaE3(x0 float64) PlassmannStrongWolfeNWAlphaE3Result {
 	return PlassmannStrongWolfeNWAlphaE3WithLimits(x0, PlassmannStrongWolfeNWAlphaE3DefaultLimits())
@@ -113,7 +113,7 @@ const (
 	plassmannStrongWolfeNWAlphaE3StepInitial    = 99999.99999999991      // step.initial
 	plassmannStrongWolfeNWAlphaE3StepDecrease   = 0.0001                 // step.decrease (c1)
 	plassmannStrongWolfeNWAlphaE3StepCurvature  = 0.9                    // step.curvature (c2)
-	plassmannStrongWolfeNWAlphaE3StepTrials     = 40                     // step.trials
+	plassmannStrongWolfeNWAlphaE3StepTrials     = 65                     // step.trials
 	plassmannStrongWolfeNWAlphaE3DerivativeCost = 0                      // objective calls per gradient
 	plassmannStrongWolfeNWAlphaE3UnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
 	plassmannStrongWolfeNWAlphaE3LargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type

@@ -87,10 +87,10 @@ func PlassmannStrongWolfeNWAlphaEm1DefaultLimits() PlassmannStrongWolfeNWAlphaEm
 // Direction steepest: steepest descent, d = −∇f; no memory, linear convergence.
 // Step rule strong-wolfe: bracket and zoom until sufficient decrease and the strong curvature condition hold.
 // Derivative analytic: the user's own gradient function (spec key `gradient`); costs no objective calls.
-// Constants: initial 9.999999999999991, c1 0.0001, c2 0.9, at most 40 trials per line search.
+// Constants: initial 9.999999999999991, c1 0.0001, c2 0.9, at most 51 trials per line search.
 // Default stop: largest gradient component ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 500 iterations, 10000 objective calls.
 //
-// Worst case: 10000 objective calls (the evaluation cap; the iteration limit alone would allow 20001). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
+// Worst case: 10000 objective calls (the evaluation cap; the iteration limit alone would allow 25501). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
 func PlassmannStrongWolfeNWAlphaEm1(x0 float64) PlassmannStrongWolfeNWAlphaEm1Result {
 	return PlassmannStrongWolfeNWAlphaEm1WithLimits(x0, PlassmannStrongWolfeNWAlphaEm1DefaultLimits())
@@ -113,7 +113,7 @@ const (
 	plassmannStrongWolfeNWAlphaEm1StepInitial    = 9.999999999999991      // step.initial
 	plassmannStrongWolfeNWAlphaEm1StepDecrease   = 0.0001                 // step.decrease (c1)
 	plassmannStrongWolfeNWAlphaEm1StepCurvature  = 0.9                    // step.curvature (c2)
-	plassmannStrongWolfeNWAlphaEm1StepTrials     = 40                     // step.trials
+	plassmannStrongWolfeNWAlphaEm1StepTrials     = 51                     // step.trials
 	plassmannStrongWolfeNWAlphaEm1DerivativeCost = 0                      // objective calls per gradient
 	plassmannStrongWolfeNWAlphaEm1UnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
 	plassmannStrongWolfeNWAlphaEm1LargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type

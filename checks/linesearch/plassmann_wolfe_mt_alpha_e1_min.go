@@ -87,10 +87,10 @@ func PlassmannWolfeMTAlphaE1DefaultLimits() PlassmannWolfeMTAlphaE1Limits {
 // Direction steepest: steepest descent, d = −∇f; no memory, linear convergence.
 // Step rule wolfe: bracket and zoom until sufficient decrease and the curvature condition hold.
 // Derivative analytic: the user's own gradient function (spec key `gradient`); costs no objective calls.
-// Constants: initial 999.9999999999991, c1 0.01, c2 0.1, at most 40 trials per line search.
+// Constants: initial 999.9999999999991, c1 0.01, c2 0.1, at most 58 trials per line search.
 // Default stop: largest gradient component ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 500 iterations, 10000 objective calls.
 //
-// Worst case: 10000 objective calls (the evaluation cap; the iteration limit alone would allow 20001). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
+// Worst case: 10000 objective calls (the evaluation cap; the iteration limit alone would allow 29001). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
 func PlassmannWolfeMTAlphaE1(x0 float64) PlassmannWolfeMTAlphaE1Result {
 	return PlassmannWolfeMTAlphaE1WithLimits(x0, PlassmannWolfeMTAlphaE1DefaultLimits())
@@ -113,7 +113,7 @@ const (
 	plassmannWolfeMTAlphaE1StepInitial    = 999.9999999999991      // step.initial
 	plassmannWolfeMTAlphaE1StepDecrease   = 0.01                   // step.decrease (c1)
 	plassmannWolfeMTAlphaE1StepCurvature  = 0.1                    // step.curvature (c2)
-	plassmannWolfeMTAlphaE1StepTrials     = 40                     // step.trials
+	plassmannWolfeMTAlphaE1StepTrials     = 58                     // step.trials
 	plassmannWolfeMTAlphaE1DerivativeCost = 0                      // objective calls per gradient
 	plassmannWolfeMTAlphaE1UnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
 	plassmannWolfeMTAlphaE1LargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type

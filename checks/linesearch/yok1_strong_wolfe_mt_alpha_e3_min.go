@@ -87,10 +87,10 @@ func YOK1StrongWolfeMTAlphaE3DefaultLimits() YOK1StrongWolfeMTAlphaE3Limits {
 // Direction steepest: steepest descent, d = −∇f; no memory, linear convergence.
 // Step rule strong-wolfe: bracket and zoom until sufficient decrease and the strong curvature condition hold.
 // Derivative analytic: the user's own gradient function (spec key `gradient`); costs no objective calls.
-// Constants: initial 1001.0010004999999, c1 0.0001, c2 0.001, at most 40 trials per line search.
+// Constants: initial 1001.0010004999999, c1 0.0001, c2 0.001, at most 58 trials per line search.
 // Default stop: largest gradient component ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 500 iterations, 10000 objective calls.
 //
-// Worst case: 10000 objective calls (the evaluation cap; the iteration limit alone would allow 20001). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
+// Worst case: 10000 objective calls (the evaluation cap; the iteration limit alone would allow 29001). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
 func YOK1StrongWolfeMTAlphaE3(x0 float64) YOK1StrongWolfeMTAlphaE3Result {
 	return YOK1StrongWolfeMTAlphaE3WithLimits(x0, YOK1StrongWolfeMTAlphaE3DefaultLimits())
@@ -113,7 +113,7 @@ const (
 	yok1StrongWolfeMTAlphaE3StepInitial    = 1001.0010004999999     // step.initial
 	yok1StrongWolfeMTAlphaE3StepDecrease   = 0.0001                 // step.decrease (c1)
 	yok1StrongWolfeMTAlphaE3StepCurvature  = 0.001                  // step.curvature (c2)
-	yok1StrongWolfeMTAlphaE3StepTrials     = 40                     // step.trials
+	yok1StrongWolfeMTAlphaE3StepTrials     = 58                     // step.trials
 	yok1StrongWolfeMTAlphaE3DerivativeCost = 0                      // objective calls per gradient
 	yok1StrongWolfeMTAlphaE3UnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
 	yok1StrongWolfeMTAlphaE3LargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type

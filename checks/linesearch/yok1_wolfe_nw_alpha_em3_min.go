@@ -87,10 +87,10 @@ func YOK1WolfeNWAlphaEm3DefaultLimits() YOK1WolfeNWAlphaEm3Limits {
 // Direction steepest: steepest descent, d = −∇f; no memory, linear convergence.
 // Step rule wolfe: bracket and zoom until sufficient decrease and the curvature condition hold.
 // Derivative analytic: the user's own gradient function (spec key `gradient`); costs no objective calls.
-// Constants: initial 0.0010010010004999998, c1 0.0001, c2 0.9, at most 40 trials per line search.
+// Constants: initial 0.0010010010004999998, c1 0.0001, c2 0.9, at most 38 trials per line search.
 // Default stop: largest gradient component ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 500 iterations, 10000 objective calls.
 //
-// Worst case: 10000 objective calls (the evaluation cap; the iteration limit alone would allow 20001). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
+// Worst case: 10000 objective calls (the evaluation cap; the iteration limit alone would allow 19001). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
 func YOK1WolfeNWAlphaEm3(x0 float64) YOK1WolfeNWAlphaEm3Result {
 	return YOK1WolfeNWAlphaEm3WithLimits(x0, YOK1WolfeNWAlphaEm3DefaultLimits())
@@ -113,7 +113,7 @@ const (
 	yok1WolfeNWAlphaEm3StepInitial    = 0.0010010010004999998  // step.initial
 	yok1WolfeNWAlphaEm3StepDecrease   = 0.0001                 // step.decrease (c1)
 	yok1WolfeNWAlphaEm3StepCurvature  = 0.9                    // step.curvature (c2)
-	yok1WolfeNWAlphaEm3StepTrials     = 40                     // step.trials
+	yok1WolfeNWAlphaEm3StepTrials     = 38                     // step.trials
 	yok1WolfeNWAlphaEm3DerivativeCost = 0                      // objective calls per gradient
 	yok1WolfeNWAlphaEm3UnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
 	yok1WolfeNWAlphaEm3LargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type

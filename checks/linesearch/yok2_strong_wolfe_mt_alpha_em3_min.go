@@ -87,10 +87,10 @@ func YOK2StrongWolfeMTAlphaEm3DefaultLimits() YOK2StrongWolfeMTAlphaEm3Limits {
 // Direction steepest: steepest descent, d = −∇f; no memory, linear convergence.
 // Step rule strong-wolfe: bracket and zoom until sufficient decrease and the strong curvature condition hold.
 // Derivative analytic: the user's own gradient function (spec key `gradient`); costs no objective calls.
-// Constants: initial 0.0010100505037749358, c1 0.0001, c2 0.001, at most 40 trials per line search.
+// Constants: initial 0.0010100505037749358, c1 0.0001, c2 0.001, at most 38 trials per line search.
 // Default stop: largest gradient component ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 500 iterations, 10000 objective calls.
 //
-// Worst case: 10000 objective calls (the evaluation cap; the iteration limit alone would allow 20001). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
+// Worst case: 10000 objective calls (the evaluation cap; the iteration limit alone would allow 19001). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
 func YOK2StrongWolfeMTAlphaEm3(x0 float64) YOK2StrongWolfeMTAlphaEm3Result {
 	return YOK2StrongWolfeMTAlphaEm3WithLimits(x0, YOK2StrongWolfeMTAlphaEm3DefaultLimits())
@@ -113,7 +113,7 @@ const (
 	yok2StrongWolfeMTAlphaEm3StepInitial    = 0.0010100505037749358  // step.initial
 	yok2StrongWolfeMTAlphaEm3StepDecrease   = 0.0001                 // step.decrease (c1)
 	yok2StrongWolfeMTAlphaEm3StepCurvature  = 0.001                  // step.curvature (c2)
-	yok2StrongWolfeMTAlphaEm3StepTrials     = 40                     // step.trials
+	yok2StrongWolfeMTAlphaEm3StepTrials     = 38                     // step.trials
 	yok2StrongWolfeMTAlphaEm3DerivativeCost = 0                      // objective calls per gradient
 	yok2StrongWolfeMTAlphaEm3UnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
 	yok2StrongWolfeMTAlphaEm3LargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type

@@ -87,10 +87,10 @@ func YOK3WolfeNWAlphaEm1DefaultLimits() YOK3WolfeNWAlphaEm1Limits {
 // Direction steepest: steepest descent, d = −∇f; no memory, linear convergence.
 // Step rule wolfe: bracket and zoom until sufficient decrease and the curvature condition hold.
 // Derivative analytic: the user's own gradient function (spec key `gradient`); costs no objective calls.
-// Constants: initial 0.10010505487736868, c1 0.0001, c2 0.9, at most 40 trials per line search.
+// Constants: initial 0.10010505487736868, c1 0.0001, c2 0.9, at most 45 trials per line search.
 // Default stop: largest gradient component ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 500 iterations, 10000 objective calls.
 //
-// Worst case: 10000 objective calls (the evaluation cap; the iteration limit alone would allow 20001). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
+// Worst case: 10000 objective calls (the evaluation cap; the iteration limit alone would allow 22501). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
 func YOK3WolfeNWAlphaEm1(x0 float64) YOK3WolfeNWAlphaEm1Result {
 	return YOK3WolfeNWAlphaEm1WithLimits(x0, YOK3WolfeNWAlphaEm1DefaultLimits())
@@ -113,7 +113,7 @@ const (
 	yok3WolfeNWAlphaEm1StepInitial    = 0.10010505487736868    // step.initial
 	yok3WolfeNWAlphaEm1StepDecrease   = 0.0001                 // step.decrease (c1)
 	yok3WolfeNWAlphaEm1StepCurvature  = 0.9                    // step.curvature (c2)
-	yok3WolfeNWAlphaEm1StepTrials     = 40                     // step.trials
+	yok3WolfeNWAlphaEm1StepTrials     = 45                     // step.trials
 	yok3WolfeNWAlphaEm1DerivativeCost = 0                      // objective calls per gradient
 	yok3WolfeNWAlphaEm1UnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
 	yok3WolfeNWAlphaEm1LargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type

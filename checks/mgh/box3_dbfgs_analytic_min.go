@@ -87,10 +87,10 @@ func Box3DBFGSAnalyticDefaultLimits() Box3DBFGSAnalyticLimits {
 // Direction bfgs: BFGS quasi-Newton with a dense inverse-Hessian approximation (dim² numbers).
 // Step rule wolfe: bracket and zoom until sufficient decrease and the curvature condition hold.
 // Derivative analytic: the user's own gradient function (spec key `gradient`); costs no objective calls.
-// Constants: initial 1.0, c1 0.0001, c2 0.9, at most 40 trials per line search.
+// Constants: initial 1.0, c1 0.0001, c2 0.9, at most 48 trials per line search.
 // Default stop: largest gradient component ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
 //
-// Worst case: 200000 objective calls (the evaluation cap; the iteration limit alone would allow 200001). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
+// Worst case: 200000 objective calls (the evaluation cap; the iteration limit alone would allow 240001). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
 func Box3DBFGSAnalytic(x0 [3]float64) Box3DBFGSAnalyticResult {
 	return Box3DBFGSAnalyticWithLimits(x0, Box3DBFGSAnalyticDefaultLimits())
@@ -113,7 +113,7 @@ const (
 	box3DBFGSAnalyticStepInitial    = 1.0                    // step.initial
 	box3DBFGSAnalyticStepDecrease   = 0.0001                 // step.decrease (c1)
 	box3DBFGSAnalyticStepCurvature  = 0.9                    // step.curvature (c2)
-	box3DBFGSAnalyticStepTrials     = 40                     // step.trials
+	box3DBFGSAnalyticStepTrials     = 48                     // step.trials
 	box3DBFGSAnalyticDerivativeCost = 0                      // objective calls per gradient
 	box3DBFGSAnalyticUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
 	box3DBFGSAnalyticLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type

@@ -87,10 +87,10 @@ func BrownBadlyScaledLBFGSAnalyticDefaultLimits() BrownBadlyScaledLBFGSAnalyticL
 // Direction lbfgs: limited-memory BFGS: the last `memory` pairs, two-loop recursion (2·memory·dim numbers).
 // Step rule wolfe: bracket and zoom until sufficient decrease and the curvature condition hold.
 // Derivative analytic: the user's own gradient function (spec key `gradient`); costs no objective calls.
-// Constants: initial 1.0, c1 0.0001, c2 0.9, at most 40 trials per line search, memory 5 pairs.
+// Constants: initial 1.0, c1 0.0001, c2 0.9, at most 48 trials per line search, memory 5 pairs.
 // Default stop: largest gradient component ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
 //
-// Worst case: 200000 objective calls (the evaluation cap; the iteration limit alone would allow 200001). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
+// Worst case: 200000 objective calls (the evaluation cap; the iteration limit alone would allow 240001). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
 func BrownBadlyScaledLBFGSAnalytic(x0 [2]float64) BrownBadlyScaledLBFGSAnalyticResult {
 	return BrownBadlyScaledLBFGSAnalyticWithLimits(x0, BrownBadlyScaledLBFGSAnalyticDefaultLimits())
@@ -113,8 +113,8 @@ const (
 	brownBadlyScaledLBFGSAnalyticStepInitial    = 1.0                    // step.initial
 	brownBadlyScaledLBFGSAnalyticStepDecrease   = 0.0001                 // step.decrease (c1)
 	brownBadlyScaledLBFGSAnalyticStepCurvature  = 0.9                    // step.curvature (c2)
-	brownBadlyScaledLBFGSAnalyticStepTrials     = 40                     // step.trials
 	brownBadlyScaledLBFGSAnalyticLbfgsMemory    = 5                      // memory
+	brownBadlyScaledLBFGSAnalyticStepTrials     = 48                     // step.trials
 	brownBadlyScaledLBFGSAnalyticDerivativeCost = 0                      // objective calls per gradient
 	brownBadlyScaledLBFGSAnalyticUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
 	brownBadlyScaledLBFGSAnalyticLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type

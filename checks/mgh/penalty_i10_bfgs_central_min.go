@@ -87,10 +87,10 @@ func PenaltyI10BFGSCentralDefaultLimits() PenaltyI10BFGSCentralLimits {
 // Direction bfgs: BFGS quasi-Newton with a dense inverse-Hessian approximation (dim² numbers).
 // Step rule wolfe: bracket and zoom until sufficient decrease and the curvature condition hold.
 // Derivative central: central differences: 2·dim objective calls per gradient, error O(u^(2/3)).
-// Constants: initial 1.0, c1 0.0001, c2 0.9, at most 40 trials per line search.
+// Constants: initial 1.0, c1 0.0001, c2 0.9, at most 48 trials per line search.
 // Default stop: largest gradient component ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
 //
-// Worst case: 200000 objective calls, 20 of them per gradient (the evaluation cap; the iteration limit alone would allow 4200021). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
+// Worst case: 200000 objective calls, 20 of them per gradient (the evaluation cap; the iteration limit alone would allow 5040021). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
 func PenaltyI10BFGSCentral(x0 [10]float64) PenaltyI10BFGSCentralResult {
 	return PenaltyI10BFGSCentralWithLimits(x0, PenaltyI10BFGSCentralDefaultLimits())
@@ -113,7 +113,7 @@ const (
 	penaltyI10BFGSCentralStepInitial    = 1.0                    // step.initial
 	penaltyI10BFGSCentralStepDecrease   = 0.0001                 // step.decrease (c1)
 	penaltyI10BFGSCentralStepCurvature  = 0.9                    // step.curvature (c2)
-	penaltyI10BFGSCentralStepTrials     = 40                     // step.trials
+	penaltyI10BFGSCentralStepTrials     = 48                     // step.trials
 	penaltyI10BFGSCentralDerivativeCost = 20                     // objective calls per gradient
 	penaltyI10BFGSCentralUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
 	penaltyI10BFGSCentralLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type

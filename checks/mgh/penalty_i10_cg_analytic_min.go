@@ -87,10 +87,10 @@ func PenaltyI10CGAnalyticDefaultLimits() PenaltyI10CGAnalyticLimits {
 // Direction cg: nonlinear conjugate gradients, Polak–Ribière clipped at zero (PR+), restarted every dim steps.
 // Step rule strong-wolfe: bracket and zoom until sufficient decrease and the strong curvature condition hold.
 // Derivative analytic: the user's own gradient function (spec key `gradient`); costs no objective calls.
-// Constants: initial 1.0, c1 0.0001, c2 0.1, at most 40 trials per line search.
+// Constants: initial 1.0, c1 0.0001, c2 0.1, at most 48 trials per line search.
 // Default stop: largest gradient component ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
 //
-// Worst case: 200000 objective calls (the evaluation cap; the iteration limit alone would allow 200001). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
+// Worst case: 200000 objective calls (the evaluation cap; the iteration limit alone would allow 240001). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
 func PenaltyI10CGAnalytic(x0 [10]float64) PenaltyI10CGAnalyticResult {
 	return PenaltyI10CGAnalyticWithLimits(x0, PenaltyI10CGAnalyticDefaultLimits())
@@ -113,7 +113,7 @@ const (
 	penaltyI10CGAnalyticStepInitial    = 1.0                    // step.initial
 	penaltyI10CGAnalyticStepDecrease   = 0.0001                 // step.decrease (c1)
 	penaltyI10CGAnalyticStepCurvature  = 0.1                    // step.curvature (c2)
-	penaltyI10CGAnalyticStepTrials     = 40                     // step.trials
+	penaltyI10CGAnalyticStepTrials     = 48                     // step.trials
 	penaltyI10CGAnalyticDerivativeCost = 0                      // objective calls per gradient
 	penaltyI10CGAnalyticUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
 	penaltyI10CGAnalyticLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type

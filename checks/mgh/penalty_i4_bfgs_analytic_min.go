@@ -87,10 +87,10 @@ func PenaltyI4BFGSAnalyticDefaultLimits() PenaltyI4BFGSAnalyticLimits {
 // Direction bfgs: BFGS quasi-Newton with a dense inverse-Hessian approximation (dim² numbers).
 // Step rule wolfe: bracket and zoom until sufficient decrease and the curvature condition hold.
 // Derivative analytic: the user's own gradient function (spec key `gradient`); costs no objective calls.
-// Constants: initial 1.0, c1 0.0001, c2 0.9, at most 40 trials per line search.
+// Constants: initial 1.0, c1 0.0001, c2 0.9, at most 48 trials per line search.
 // Default stop: largest gradient component ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
 //
-// Worst case: 200000 objective calls (the evaluation cap; the iteration limit alone would allow 200001). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
+// Worst case: 200000 objective calls (the evaluation cap; the iteration limit alone would allow 240001). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
 func PenaltyI4BFGSAnalytic(x0 [4]float64) PenaltyI4BFGSAnalyticResult {
 	return PenaltyI4BFGSAnalyticWithLimits(x0, PenaltyI4BFGSAnalyticDefaultLimits())
@@ -113,7 +113,7 @@ const (
 	penaltyI4BFGSAnalyticStepInitial    = 1.0                    // step.initial
 	penaltyI4BFGSAnalyticStepDecrease   = 0.0001                 // step.decrease (c1)
 	penaltyI4BFGSAnalyticStepCurvature  = 0.9                    // step.curvature (c2)
-	penaltyI4BFGSAnalyticStepTrials     = 40                     // step.trials
+	penaltyI4BFGSAnalyticStepTrials     = 48                     // step.trials
 	penaltyI4BFGSAnalyticDerivativeCost = 0                      // objective calls per gradient
 	penaltyI4BFGSAnalyticUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
 	penaltyI4BFGSAnalyticLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type

@@ -87,10 +87,10 @@ func PenaltyII10CGCentralDefaultLimits() PenaltyII10CGCentralLimits {
 // Direction cg: nonlinear conjugate gradients, Polak–Ribière clipped at zero (PR+), restarted every dim steps.
 // Step rule strong-wolfe: bracket and zoom until sufficient decrease and the strong curvature condition hold.
 // Derivative central: central differences: 2·dim objective calls per gradient, error O(u^(2/3)).
-// Constants: initial 1.0, c1 0.0001, c2 0.1, at most 40 trials per line search.
+// Constants: initial 1.0, c1 0.0001, c2 0.1, at most 48 trials per line search.
 // Default stop: largest gradient component ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
 //
-// Worst case: 200000 objective calls, 20 of them per gradient (the evaluation cap; the iteration limit alone would allow 4200021). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
+// Worst case: 200000 objective calls, 20 of them per gradient (the evaluation cap; the iteration limit alone would allow 5040021). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
 func PenaltyII10CGCentral(x0 [10]float64) PenaltyII10CGCentralResult {
 	return PenaltyII10CGCentralWithLimits(x0, PenaltyII10CGCentralDefaultLimits())
@@ -113,7 +113,7 @@ const (
 	penaltyII10CGCentralStepInitial    = 1.0                    // step.initial
 	penaltyII10CGCentralStepDecrease   = 0.0001                 // step.decrease (c1)
 	penaltyII10CGCentralStepCurvature  = 0.1                    // step.curvature (c2)
-	penaltyII10CGCentralStepTrials     = 40                     // step.trials
+	penaltyII10CGCentralStepTrials     = 48                     // step.trials
 	penaltyII10CGCentralDerivativeCost = 20                     // objective calls per gradient
 	penaltyII10CGCentralUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
 	penaltyII10CGCentralLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type

@@ -87,10 +87,10 @@ func PowellSingularLBFGSCentralDefaultLimits() PowellSingularLBFGSCentralLimits 
 // Direction lbfgs: limited-memory BFGS: the last `memory` pairs, two-loop recursion (2·memory·dim numbers).
 // Step rule wolfe: bracket and zoom until sufficient decrease and the curvature condition hold.
 // Derivative central: central differences: 2·dim objective calls per gradient, error O(u^(2/3)).
-// Constants: initial 1.0, c1 0.0001, c2 0.9, at most 40 trials per line search, memory 5 pairs.
+// Constants: initial 1.0, c1 0.0001, c2 0.9, at most 48 trials per line search, memory 5 pairs.
 // Default stop: largest gradient component ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
 //
-// Worst case: 200000 objective calls, 8 of them per gradient (the evaluation cap; the iteration limit alone would allow 1800009). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
+// Worst case: 200000 objective calls, 8 of them per gradient (the evaluation cap; the iteration limit alone would allow 2160009). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
 func PowellSingularLBFGSCentral(x0 [4]float64) PowellSingularLBFGSCentralResult {
 	return PowellSingularLBFGSCentralWithLimits(x0, PowellSingularLBFGSCentralDefaultLimits())
@@ -113,8 +113,8 @@ const (
 	powellSingularLBFGSCentralStepInitial    = 1.0                    // step.initial
 	powellSingularLBFGSCentralStepDecrease   = 0.0001                 // step.decrease (c1)
 	powellSingularLBFGSCentralStepCurvature  = 0.9                    // step.curvature (c2)
-	powellSingularLBFGSCentralStepTrials     = 40                     // step.trials
 	powellSingularLBFGSCentralLbfgsMemory    = 5                      // memory
+	powellSingularLBFGSCentralStepTrials     = 48                     // step.trials
 	powellSingularLBFGSCentralDerivativeCost = 8                      // objective calls per gradient
 	powellSingularLBFGSCentralUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
 	powellSingularLBFGSCentralLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type

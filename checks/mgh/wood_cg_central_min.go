@@ -87,10 +87,10 @@ func WoodCGCentralDefaultLimits() WoodCGCentralLimits {
 // Direction cg: nonlinear conjugate gradients, Polak–Ribière clipped at zero (PR+), restarted every dim steps.
 // Step rule strong-wolfe: bracket and zoom until sufficient decrease and the strong curvature condition hold.
 // Derivative central: central differences: 2·dim objective calls per gradient, error O(u^(2/3)).
-// Constants: initial 1.0, c1 0.0001, c2 0.1, at most 40 trials per line search.
+// Constants: initial 1.0, c1 0.0001, c2 0.1, at most 48 trials per line search.
 // Default stop: largest gradient component ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
 //
-// Worst case: 200000 objective calls, 8 of them per gradient (the evaluation cap; the iteration limit alone would allow 1800009). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
+// Worst case: 200000 objective calls, 8 of them per gradient (the evaluation cap; the iteration limit alone would allow 2160009). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
 func WoodCGCentral(x0 [4]float64) WoodCGCentralResult {
 	return WoodCGCentralWithLimits(x0, WoodCGCentralDefaultLimits())
@@ -113,7 +113,7 @@ const (
 	woodCGCentralStepInitial    = 1.0                    // step.initial
 	woodCGCentralStepDecrease   = 0.0001                 // step.decrease (c1)
 	woodCGCentralStepCurvature  = 0.1                    // step.curvature (c2)
-	woodCGCentralStepTrials     = 40                     // step.trials
+	woodCGCentralStepTrials     = 48                     // step.trials
 	woodCGCentralDerivativeCost = 8                      // objective calls per gradient
 	woodCGCentralUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
 	woodCGCentralLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type

@@ -85,10 +85,10 @@ func TuneGainDefaultLimits() TuneGainLimits {
 // Direction bfgs: BFGS quasi-Newton with a dense inverse-Hessian approximation (dim² numbers).
 // Step rule armijo: backtrack from `initial` until the Armijo sufficient-decrease test holds.
 // Derivative central: central differences: 2·dim objective calls per gradient, error O(u^(2/3)).
-// Constants: initial 1.0, shrink 0.5, c1 0.0001, at most 40 trials per line search.
+// Constants: initial 1.0, shrink 0.5, c1 0.0001, at most 48 trials per line search.
 // Default stop: largest gradient component ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 500 iterations, 10000 objective calls.
 //
-// Worst case: 10000 objective calls, 2 of them per gradient (the evaluation cap; the iteration limit alone would allow 21003). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
+// Worst case: 10000 objective calls, 2 of them per gradient (the evaluation cap; the iteration limit alone would allow 25003). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
 func TuneGain(x0 float64) TuneGainResult {
 	return TuneGainWithLimits(x0, TuneGainDefaultLimits())
@@ -111,7 +111,7 @@ const (
 	tuneGainStepInitial    = 1.0                    // step.initial
 	tuneGainStepShrink     = 0.5                    // step.shrink
 	tuneGainStepDecrease   = 0.0001                 // step.decrease (c1)
-	tuneGainStepTrials     = 40                     // step.trials
+	tuneGainStepTrials     = 48                     // step.trials
 	tuneGainDerivativeCost = 2                      // objective calls per gradient
 	tuneGainUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
 	tuneGainLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type

@@ -87,10 +87,10 @@ func MinBowlDefaultLimits() MinBowlLimits {
 // Direction cg: nonlinear conjugate gradients, Polak–Ribière clipped at zero (PR+), restarted every dim steps.
 // Step rule strong-wolfe: bracket and zoom until sufficient decrease and the strong curvature condition hold.
 // Derivative forward: forward differences: dim objective calls per gradient, error O(√u).
-// Constants: initial 1.0, c1 0.0001, c2 0.1, at most 40 trials per line search.
+// Constants: initial 1.0, c1 0.0001, c2 0.1, at most 21 trials per line search.
 // Default stop: largest gradient component ≤ 0.01, every |Δxᵢ| ≤ 1e-06·(|xᵢ| + 1), 500 iterations, 10000 objective calls.
 //
-// Worst case: 10000 objective calls, 3 of them per gradient (the evaluation cap; the iteration limit alone would allow 80004). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
+// Worst case: 10000 objective calls, 3 of them per gradient (the evaluation cap; the iteration limit alone would allow 42004). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
 func MinBowl(x0 [3]float32) MinBowlResult {
 	return MinBowlWithLimits(x0, MinBowlDefaultLimits())
@@ -113,7 +113,7 @@ const (
 	minBowlStepInitial    = 1.0                   // step.initial
 	minBowlStepDecrease   = 0.0001                // step.decrease (c1)
 	minBowlStepCurvature  = 0.1                   // step.curvature (c2)
-	minBowlStepTrials     = 40                    // step.trials
+	minBowlStepTrials     = 21                    // step.trials
 	minBowlDerivativeCost = 3                     // objective calls per gradient
 	minBowlUnitRoundoff   = 5.960464477539063e-08 // unit roundoff u of the float type
 	minBowlLargestFinite  = 0x1.fffffep127        // the largest finite value of the float type

@@ -87,10 +87,10 @@ func MinPlateDecreaseDefaultLimits() MinPlateDecreaseLimits {
 // Direction steepest: steepest descent, d = −∇f; no memory, linear convergence.
 // Step rule decrease: backtrack from `initial` until f decreases at all.
 // Derivative central: central differences: 2·dim objective calls per gradient, error O(u^(2/3)).
-// Constants: initial 1.0, shrink 0.5, at most 40 trials per line search, trials by safeguarded quadratic/cubic interpolation.
+// Constants: initial 1.0, shrink 0.5, at most 21 trials per line search, trials by safeguarded quadratic/cubic interpolation.
 // Default stop: largest gradient component ≤ 0.001, every |Δxᵢ| ≤ 1e-06·(|xᵢ| + 1), 500 iterations, 10000 objective calls.
 //
-// Worst case: 10000 objective calls, 4 of them per gradient (the evaluation cap; the iteration limit alone would allow 22005). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
+// Worst case: 10000 objective calls, 4 of them per gradient (the evaluation cap; the iteration limit alone would allow 12505). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
 func MinPlateDecrease(x0 [2]float32) MinPlateDecreaseResult {
 	return MinPlateDecreaseWithLimits(x0, MinPlateDecreaseDefaultLimits())
@@ -112,7 +112,7 @@ func MinPlateDecreaseWithLimits(x0 [2]float32, limits MinPlateDecreaseLimits) Mi
 const (
 	minPlateDecreaseStepInitial    = 1.0                   // step.initial
 	minPlateDecreaseStepShrink     = 0.5                   // step.shrink
-	minPlateDecreaseStepTrials     = 40                    // step.trials
+	minPlateDecreaseStepTrials     = 21                    // step.trials
 	minPlateDecreaseDerivativeCost = 4                     // objective calls per gradient
 	minPlateDecreaseUnitRoundoff   = 5.960464477539063e-08 // unit roundoff u of the float type
 	minPlateDecreaseLargestFinite  = 0x1.fffffep127        // the largest finite value of the float type

@@ -87,10 +87,10 @@ func MinValleyDefaultLimits() MinValleyLimits {
 // Direction lbfgs: limited-memory BFGS: the last `memory` pairs, two-loop recursion (2·memory·dim numbers).
 // Step rule wolfe: bracket and zoom until sufficient decrease and the curvature condition hold.
 // Derivative analytic: the user's own gradient function (spec key `gradient`); costs no objective calls.
-// Constants: initial 1.0, c1 0.0001, c2 0.8, at most 40 trials per line search, memory 3 pairs.
+// Constants: initial 1.0, c1 0.0001, c2 0.8, at most 48 trials per line search, memory 3 pairs.
 // Default stop: largest gradient component ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 500 iterations, 10000 objective calls.
 //
-// Worst case: 10000 objective calls (the evaluation cap; the iteration limit alone would allow 20001). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
+// Worst case: 10000 objective calls (the evaluation cap; the iteration limit alone would allow 24001). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
 func MinValley(recv *Valley, x0 [2]float64) MinValleyResult {
 	return MinValleyWithLimits(recv, x0, MinValleyDefaultLimits())
@@ -113,8 +113,8 @@ const (
 	minValleyStepInitial    = 1.0                    // step.initial
 	minValleyStepDecrease   = 0.0001                 // step.decrease (c1)
 	minValleyStepCurvature  = 0.8                    // step.curvature (c2)
-	minValleyStepTrials     = 40                     // step.trials
 	minValleyLbfgsMemory    = 3                      // memory
+	minValleyStepTrials     = 48                     // step.trials
 	minValleyDerivativeCost = 0                      // objective calls per gradient
 	minValleyUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
 	minValleyLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type

@@ -88,7 +88,7 @@ func MinPlateDefaultLimits() MinPlateLimits {
 // Constants: initial 0.2.
 // Default stop: largest gradient component ≤ 0.0001, every |Δxᵢ| ≤ 1e-06·(|xᵢ| + 1), 500 iterations, 10000 objective calls.
 //
-// Worst case: 501 objective calls (the evaluation cap; the iteration limit alone would allow 501). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
+// Worst case: 501 objective calls (the bound the iteration limit sets, below the evaluation cap of 10000). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
 func MinPlate(x0 [2]float32) MinPlateResult {
 	return MinPlateWithLimits(x0, MinPlateDefaultLimits())
