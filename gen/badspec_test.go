@@ -392,6 +392,12 @@ func TestBadSpecSnippets(t *testing.T) {
 			`1:1: unknown key "bogus"`,
 			"7:10: memory must be a whole number, not a TOML string",
 		}},
+		// Two minimizers without a name: each is named once, with no
+		// cascade about the output file they would share.
+		{"two without names", "[[minimizer]]\nobjective = \"Loss\"\nstart = 1.0\n[[minimizer]]\nobjective = \"Loss\"\nstart = 2.0\n", []string{
+			"1:3: name is required: the exported Go name of the minimizer",
+			"4:3: name is required: the exported Go name of the minimizer",
+		}},
 		// Whole numbers may be written as integral floats.
 		{"integral float", head + "direction = \"lbfgs\"\nmemory = 2.5\n[minimizer.stop]\nevaluations = 1e6\niterations = 1.5e3\n", []string{
 			"6:10: memory must be a whole number, got 2.5",

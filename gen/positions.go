@@ -1,7 +1,6 @@
 package gen
 
 import (
-	"sort"
 	"strconv"
 	"strings"
 
@@ -107,28 +106,6 @@ func keyParts(n *unstable.Node) ([]string, *unstable.Node) {
 		parts = append(parts, string(k.Data))
 	}
 	return parts, first
-}
-
-// pathAt returns the key path, array indexes dropped, of the key at pos:
-// go-toml names a key inside an inline table without the table.
-func (ix *positions) pathAt(pos Pos) (string, bool) {
-	var found []string
-	for path, p := range ix.keys {
-		if p == pos {
-			found = append(found, path)
-		}
-	}
-	if len(found) == 0 {
-		return "", false
-	}
-	sort.Strings(found)
-	var parts []string
-	for _, part := range strings.Split(found[len(found)-1], ".") {
-		if _, err := strconv.Atoi(part); err != nil {
-			parts = append(parts, part)
-		}
-	}
-	return strings.Join(parts, "."), true
 }
 
 // key returns the position of a key, falling back to its nearest

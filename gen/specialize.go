@@ -157,7 +157,7 @@ func specNames(s ast.Spec) []string {
 type kernelChoice struct {
 	shape Shape
 	// pick maps each dispatcher to the alternative the spec chose, e.g.
-	// "lineSearch" → "armijoSearch".
+	// "lineSearch" → "wolfeSearch".
 	pick map[string]string
 	// provided are names the glue emits: stand-in types and constants,
 	// mapped to their names in the generated file.

@@ -23,7 +23,7 @@ var (
 		Math:    "d = −H∇f; H₊ = (I − ρsyᵀ)H(I − ρysᵀ) + ρssᵀ, ρ = 1/yᵀs, H₀ = (yᵀs/yᵀy)I; skip when yᵀs ≤ √u‖s‖‖y‖",
 		References: []string{
 			NocedalWright + ", eqs. 6.17 and 6.20",
-			DennisSchnabel + ", Algorithm A9.4.1 (skip test)",
+			NocedalWright + ", §6.1, condition 6.7 (why pairs with yᵀs ≤ 0 are skipped)",
 		},
 		Picks: Picks{"direction": "bfgsDirection"},
 		State: func(dim, elemBytes int, value func(*Param) float64) (int, string) {

@@ -2,9 +2,9 @@ package templates
 
 // fixedStep always takes the step stepInitial, whatever it does to f; only
 // a non-finite value at the new point is refused. It is the plain gradient
-// loop with a hand-picked step: it converges only when stepInitial is below
-// 2/L for an L-Lipschitz gradient (Nocedal & Wright 2006, §3.3, recalled
-// from memory) and otherwise oscillates or diverges.
+// loop with a hand-picked step. On a quadratic with Hessian A, steepest
+// descent with step t maps the error e to (I − tA)e, so it converges only
+// when t < 2/λ_max(A) and otherwise oscillates or diverges (closed form).
 func fixedStep(recv *receiver, x *vec, fx elem, d *vec, slope, first, tiny elem, budget int, xt, gt *vec) lineResult {
 	if budget < 1 {
 		return lineResult{end: searchOutOfBudget}
@@ -96,10 +96,10 @@ func shrunkTrial(fx, slope, t, ft, previous, fPrevious elem) elem {
 // backtrack uses the quadratic through φ(0), φ'(0) and φ(t) (Nocedal &
 // Wright 2006, eq. 3.58); later ones the cubic through φ(0), φ'(0) and the
 // last two trials (the formula after eq. 3.58). The result is kept within
-// [0.1·t, 0.5·t] so that steps neither stall nor collapse (the safeguard of
-// §3.5; the bounds 0.1 and 0.5 are Dennis & Schnabel 1983, Algorithm
-// A6.3.1, recalled from memory). A trial whose value is not finite is
-// shrunk by stepShrink, since no model fits it.
+// [0.1·t, 0.5·t] so that steps neither stall nor collapse (the safeguard
+// §3.5 asks for; the bounds 0.1 and 0.5 are common practice). A trial
+// whose value is not finite is shrunk by stepShrink, since no model fits
+// it.
 func interpolatedTrial(fx, slope, t, ft, previous, fPrevious elem) elem {
 	low, high := 0.1*t, 0.5*t
 	if !finite(ft) {

@@ -8,10 +8,8 @@ package templates
 // safely positive are skipped.
 //
 // Memory (the spec's memory key, lbfgsMemory here): a few pairs suffice;
-// Nocedal & Wright report that values between 3 and 20 usually work (§7.2)
-// and Liu & Nocedal found little gain beyond small values on their test
-// set (recalled from memory). thalweg's default is 5, to keep the stack
-// small on devices.
+// Nocedal & Wright report that values between 3 and 20 usually work
+// (§7.2). thalweg's default is 5, to keep the stack small on devices.
 //
 // References:
 //   - D. C. Liu and J. Nocedal, On the limited memory BFGS method for large

@@ -89,11 +89,9 @@ func faithfulStep(x, xt, d *vec, t elem) bool {
 // ends with searchTiny instead, since every step longer than the step
 // limit failed to decrease f. The kernel calls that convergence unless
 // the failed trials rose in proportion to the step (see riseTrend) with an
-// analytic gradient, which is then likely wrong (Dennis & Schnabel 1983,
-// §7.2, keep this case apart from the step test, recalled from memory).
-// On acceptance xt
-// holds x + t·d (and gt its gradient when the result says so). It stands
-// in for the rule the spec chose; gen keeps only that one under this name.
+// analytic gradient, which is then likely wrong. On acceptance xt holds
+// x + t·d (and gt its gradient when the result says so). It stands in for
+// the rule the spec chose; gen keeps only that one under this name.
 func lineSearch(recv *receiver, x *vec, fx elem, d *vec, slope, first, tiny elem, budget int, xt, gt *vec) lineResult {
 	switch stepRule {
 	case ruleFixed:

@@ -320,10 +320,8 @@ func box3DLBFGSCentralAbs(v float64) float64 {
 // safely positive are skipped.
 //
 // Memory (the spec's memory key, box3DLBFGSCentralLbfgsMemory here): a few pairs suffice;
-// Nocedal & Wright report that values between 3 and 20 usually work (§7.2)
-// and Liu & Nocedal found little gain beyond small values on their test
-// set (recalled from memory). thalweg's default is 5, to keep the stack
-// small on devices.
+// Nocedal & Wright report that values between 3 and 20 usually work
+// (§7.2). thalweg's default is 5, to keep the stack small on devices.
 //
 // References:
 //   - D. C. Liu and J. Nocedal, On the limited memory BFGS method for large
@@ -422,8 +420,8 @@ func box3DLBFGSCentralNegate(out, x *[3]float64) {
 // as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
 // that float32 does not overflow, with u the unit roundoff, so that the updated
 // matrix stays positive definite and well conditioned (Nocedal & Wright
-// 2006, §6.1, condition 6.7; the relative threshold √u·‖s‖‖y‖ is from
-// Dennis & Schnabel 1983, Algorithm A9.4.1, recalled from memory).
+// 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
+// practice: below it, sᵀy is within rounding of zero.
 func box3DLBFGSCentralCurvatureSafe(s, y *[3]float64) bool {
 	sy := box3DLBFGSCentralDot(s, y)
 	return sy > 0 && (sy/box3DLBFGSCentralDot(s, s))*(sy/box3DLBFGSCentralDot(y, y)) > box3DLBFGSCentralUnitRoundoff

@@ -394,8 +394,8 @@ func gulfRDBFGSCentralDot(a, b *[3]float64) float64 {
 // as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
 // that float32 does not overflow, with u the unit roundoff, so that the updated
 // matrix stays positive definite and well conditioned (Nocedal & Wright
-// 2006, §6.1, condition 6.7; the relative threshold √u·‖s‖‖y‖ is from
-// Dennis & Schnabel 1983, Algorithm A9.4.1, recalled from memory).
+// 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
+// practice: below it, sᵀy is within rounding of zero.
 func gulfRDBFGSCentralCurvatureSafe(s, y *[3]float64) bool {
 	sy := gulfRDBFGSCentralDot(s, y)
 	return sy > 0 && (sy/gulfRDBFGSCentralDot(s, s))*(sy/gulfRDBFGSCentralDot(y, y)) > gulfRDBFGSCentralUnitRoundoff

@@ -358,8 +358,8 @@ func watson6BFGSAnalyticDot(a, b *[6]float64) float64 {
 // as (sᵀy/sᵀs)·(sᵀy/yᵀy) > u, that is (sᵀy)² > u·(sᵀs)(yᵀy) written so
 // that float32 does not overflow, with u the unit roundoff, so that the updated
 // matrix stays positive definite and well conditioned (Nocedal & Wright
-// 2006, §6.1, condition 6.7; the relative threshold √u·‖s‖‖y‖ is from
-// Dennis & Schnabel 1983, Algorithm A9.4.1, recalled from memory).
+// 2006, §6.1, condition 6.7). The relative threshold √u·‖s‖‖y‖ is common
+// practice: below it, sᵀy is within rounding of zero.
 func watson6BFGSAnalyticCurvatureSafe(s, y *[6]float64) bool {
 	sy := watson6BFGSAnalyticDot(s, y)
 	return sy > 0 && (sy/watson6BFGSAnalyticDot(s, s))*(sy/watson6BFGSAnalyticDot(y, y)) > watson6BFGSAnalyticUnitRoundoff

@@ -530,10 +530,10 @@ func minPlateDecreaseAcceptable(fx, ft, t, slope float32) bool {
 // backtrack uses the quadratic through φ(0), φ'(0) and φ(t) (Nocedal &
 // Wright 2006, eq. 3.58); later ones the cubic through φ(0), φ'(0) and the
 // last two trials (the formula after eq. 3.58). The result is kept within
-// [0.1·t, 0.5·t] so that steps neither stall nor collapse (the safeguard of
-// §3.5; the bounds 0.1 and 0.5 are Dennis & Schnabel 1983, Algorithm
-// A6.3.1, recalled from memory). A trial whose value is not finite is
-// shrunk by minPlateDecreaseStepShrink, since no model fits it.
+// [0.1·t, 0.5·t] so that steps neither stall nor collapse (the safeguard
+// §3.5 asks for; the bounds 0.1 and 0.5 are common practice). A trial
+// whose value is not finite is shrunk by minPlateDecreaseStepShrink, since no model fits
+// it.
 func minPlateDecreaseBacktrackTrial(fx, slope, t, ft, previous, fPrevious float32) float32 {
 	low, high := 0.1*t, 0.5*t
 	if !minPlateDecreaseFinite(ft) {

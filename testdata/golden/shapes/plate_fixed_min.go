@@ -361,9 +361,9 @@ func minPlateTinyStep(x, d *[2]float32, tol float32) float32 {
 
 // minPlateLineSearch always takes the step minPlateStepInitial, whatever it does to f; only
 // a non-finite value at the new point is refused. It is the plain gradient
-// loop with a hand-picked step: it converges only when minPlateStepInitial is below
-// 2/L for an L-Lipschitz gradient (Nocedal & Wright 2006, §3.3, recalled
-// from memory) and otherwise oscillates or diverges.
+// loop with a hand-picked step. On a quadratic with Hessian A, steepest
+// descent with step t maps the error e to (I − tA)e, so it converges only
+// when t < 2/λ_max(A) and otherwise oscillates or diverges (closed form).
 func minPlateLineSearch(x *[2]float32, fx float32, d *[2]float32, slope, first, tiny float32, budget int, xt, gt *[2]float32) minPlateLineResult {
 	if budget < 1 {
 		return minPlateLineResult{end: minPlateSearchOutOfBudget}
