@@ -101,7 +101,7 @@ func drawConvergence(b *strings.Builder, res *TraceResult, main, strip frame) {
 	lx := main.left
 	for _, s := range []series{grad, gap} {
 		fmt.Fprintf(b, `<line x1="%.1f" y1="76" x2="%.1f" y2="76" stroke="%s" stroke-width="2"/>`, lx, lx+26, s.color)
-		marker(b, s.marker, lx+13, 76, 3.5, s.color)
+		marker(b, "key", s.marker, lx+13, 76, 3.5, s.color)
 		fmt.Fprintf(b, `<text x="%.1f" y="80">%s</text>`+"\n", lx+32, xmlEscape(s.name))
 		lx += 44 + 7.5*float64(len([]rune(s.name)))
 	}
@@ -157,7 +157,7 @@ func drawConvergence(b *strings.Builder, res *TraceResult, main, strip frame) {
 		}
 		fmt.Fprintf(b, `<polyline fill="none" stroke="%s" stroke-width="1.6" stroke-linejoin="round" points="%s"/>`+"\n", s.color, strings.Join(pts, " "))
 		for _, pt := range s.points {
-			marker(b, s.marker, x(pt[0]), y(pt[1]), radius, s.color)
+			marker(b, "marker", s.marker, x(pt[0]), y(pt[1]), radius, s.color)
 		}
 		b.WriteString("\n")
 	}
@@ -297,14 +297,14 @@ func drawContours(b *strings.Builder, res *TraceResult, area frame) {
 	}
 	// Rejected trials: a dotted line from the point the search left.
 	for _, t := range res.Trials {
-		if t.Iteration >= len(res.Rows) || len(t.X) < 2 {
+		if t.Iteration < 1 || t.Iteration > len(res.Rows) || len(t.X) < 2 {
 			continue
 		}
-		from := res.Rows[t.Iteration].X
-		if t.Iteration+1 < len(res.Rows) && sameFloats(t.X, res.Rows[t.Iteration+1].X) {
+		from := res.Rows[t.Iteration-1].X
+		if t.Iteration < len(res.Rows) && sameFloats(t.X, res.Rows[t.Iteration].X) {
 			continue // the accepted trial: the path draws it
 		}
-		fmt.Fprintf(b, `<line x1="%.1f" y1="%.1f" x2="%.1f" y2="%.1f" stroke="%s" stroke-width="0.8" stroke-dasharray="1.5 2.5"/>`, px(from[0]), py(from[1]), px(t.X[0]), py(t.X[1]), inkGap)
+		fmt.Fprintf(b, `<line class="reach" x1="%.1f" y1="%.1f" x2="%.1f" y2="%.1f" stroke="%s" stroke-width="0.8" stroke-dasharray="1.5 2.5"/>`, px(from[0]), py(from[1]), px(t.X[0]), py(t.X[1]), inkGap)
 		fmt.Fprintf(b, `<circle class="trial" cx="%.1f" cy="%.1f" r="2.6" fill="%s" stroke="%s" stroke-width="1"/>`+"\n", px(t.X[0]), py(t.X[1]), inkPaper, inkGap)
 	}
 	// The path of accepted points.
@@ -362,13 +362,14 @@ func axes(b *strings.Builder, f frame) {
 	fmt.Fprintf(b, `<path d="M%.1f %.1fV%.1fH%.1f" fill="none" stroke="%s"/>`+"\n", f.left, f.top, f.bottom(), f.right(), inkText)
 }
 
-// marker draws a point marker: a circle or a square of the given radius.
-func marker(b *strings.Builder, shape string, cx, cy, r float64, color string) {
+// marker draws a point marker, a circle or a square of the given radius,
+// of the given class ("marker" on a series, "key" in a legend).
+func marker(b *strings.Builder, class, shape string, cx, cy, r float64, color string) {
 	if shape == "square" {
-		fmt.Fprintf(b, `<rect class="marker" x="%.1f" y="%.1f" width="%.1f" height="%.1f" fill="%s"/>`, cx-r, cy-r, 2*r, 2*r, color)
+		fmt.Fprintf(b, `<rect class="%s" x="%.1f" y="%.1f" width="%.1f" height="%.1f" fill="%s"/>`, class, cx-r, cy-r, 2*r, 2*r, color)
 		return
 	}
-	fmt.Fprintf(b, `<circle class="marker" cx="%.1f" cy="%.1f" r="%.1f" fill="%s"/>`, cx, cy, r, color)
+	fmt.Fprintf(b, `<circle class="%s" cx="%.1f" cy="%.1f" r="%.1f" fill="%s"/>`, class, cx, cy, r, color)
 }
 
 // decadeTicks spans [low, high], two log₁₀ values, with whole decades:

@@ -45,7 +45,9 @@ type TraceLimits struct {
 }
 
 // TracePoint is one trial of a line search, recorded for objectives of
-// two unknowns: Iteration is the step the search was for.
+// two unknowns: Iteration is the move the search was for, so the search
+// left from row Iteration−1 (and one more than the last row for a search
+// that ended the run).
 type TracePoint struct {
 	Iteration int
 	F         float64
