@@ -258,7 +258,7 @@ func drawContours(b *strings.Builder, res *TraceResult, area frame) {
 			area.left-5, py(v), area.left, py(v), inkText, area.left-8, py(v)+4, tickLabel(v, yTicks))
 	}
 	fmt.Fprintf(b, `<text x="%.1f" y="%.1f" text-anchor="middle">x₁</text>`, area.left+area.width/2, area.bottom()+38)
-	fmt.Fprintf(b, `<text x="%.1f" y="%.1f" text-anchor="middle">x₂</text>`+"\n", area.left-58, area.top+area.height/2+4)
+	fmt.Fprintf(b, `<text x="%.1f" y="%.1f" text-anchor="middle">x₂</text>`+"\n", area.left-50, area.top+area.height/2+4)
 
 	// Contours, lowest (darkest) last so that the valley floor stays on top.
 	fMin := math.Inf(1)

@@ -83,7 +83,7 @@ const (
 	traceHook     = "thalwegTraceObserve" // observe, after the start and each accepted step
 	traceTrial    = "thalwegTraceTrial"   // wraps each trial's objective call
 	traceGridFunc = "thalwegTraceGrid"
-	traceGridSize = 60 // grid cells per side of the box
+	traceGridSize = 80 // grid cells per side of the box
 )
 
 // Trace compiles an instrumented copy of the minimizer with its package,

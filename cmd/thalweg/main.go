@@ -34,7 +34,7 @@ const usage = `usage:
   thalweg tune SPEC [--name NAME]
                         run every sensible direction × step rule from start, best first
   thalweg trace SPEC [--name NAME] [--csv FILE] [--svg FILE]
-                        run the minimizer once from start, one row per iteration
+                        run the minimizer once from start, one row per accepted step
   thalweg rules           list directions, step rules and derivative sources
   thalweg version         print thalweg's version
 `
