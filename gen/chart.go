@@ -130,6 +130,9 @@ func drawConvergence(b *strings.Builder, res *TraceResult, main, strip frame) {
 			x(m), strip.bottom(), x(m), strip.bottom()+5, inkText, x(m), strip.bottom()+19, strconv.Itoa(int(m)))
 	}
 	axes(b, main)
+	if len(res.Rows) == 0 {
+		fmt.Fprintf(b, `<text x="%.1f" y="%.1f" text-anchor="middle">the run ended before its first gradient: nothing to draw</text>`+"\n", main.left+main.width/2, main.top+main.height/2)
+	}
 	fmt.Fprintf(b, `<text x="%.1f" y="%.1f" text-anchor="middle">move (accepted steps; 0 is the start)</text>`+"\n", strip.left+strip.width/2, strip.bottom()+38)
 
 	// The gradient limit, the series, then the limit's label where no
@@ -323,9 +326,14 @@ func drawContours(b *strings.Builder, res *TraceResult, area frame) {
 	b.WriteString("\n</g>\n")
 	start, end := res.Rows[0].X, res.Rows[len(res.Rows)-1].X
 	fmt.Fprintf(b, `<rect class="start" x="%.1f" y="%.1f" width="10" height="10" fill="%s" stroke="%s" stroke-width="1.2"/>`, px(start[0])-5, py(start[1])-5, inkPaper, inkText)
-	pointLabel(b, area, "start", px(start[0]), py(start[1]), 9)
+	endLabel := "end"
+	if math.Hypot(px(start[0])-px(end[0]), py(start[1])-py(end[1])) < 16 {
+		endLabel = "start, end" // one label where the two would overlap
+	} else {
+		pointLabel(b, area, "start", px(start[0]), py(start[1]), 9)
+	}
 	fmt.Fprintf(b, `<circle class="end" cx="%.1f" cy="%.1f" r="6.5" fill="none" stroke="%s" stroke-width="2"/>`, px(end[0]), py(end[1]), inkText)
-	pointLabel(b, area, "end", px(end[0]), py(end[1]), 10)
+	pointLabel(b, area, endLabel, px(end[0]), py(end[1]), 10)
 	fmt.Fprintf(b, `<rect x="%.1f" y="%.1f" width="%.1f" height="%.1f" fill="none" stroke="%s"/>`+"\n", area.left, area.top, area.width, area.height, inkText)
 
 	// What the lines are.

@@ -113,7 +113,7 @@ func Trace(p *Plan) (*TraceResult, error) {
 // emitTraceHarness writes the recorders and the test that runs the
 // minimizer once; they print tab-separated lines that parseTrace reads:
 //
-//	thalweg-limits  gradient step iterations evaluations      (once, at the start)
+//	thalweg-limits  gradient step iterations evaluations      (the limits of the run)
 //	thalweg-trial   f x₁ x₂                                   (two unknowns: each trial)
 //	thalweg-trace   iteration evaluations trials f |g|max t slope x…
 //	thalweg-result  status converged iterations evaluations f trials-since-the-last-row
@@ -148,7 +148,7 @@ func emitTraceHarness(w io.Writer, p *Plan) error {
 	trialBody = append(trialBody, jen.Return(jen.Id("fx")))
 	f.Func().Id(traceTrial).Params(jen.Id("x").Add(vec.Clone()), jen.Id("fx").Id(s.Elem)).Id(s.Elem).Block(trialBody...)
 
-	// func thalwegTraceObserve(iteration, evaluations int, x *[N]T, fx T, g *[N]T, step, slope T, lim NAMELimits)
+	// func thalwegTraceObserve(iteration, evaluations int, x *[N]T, fx T, g *[N]T, step, slope T)
 	xLoop := []jen.Code{appendFloat("row", float(jen.Id("v")))}
 	index := jen.Id("_")
 	if plane {
@@ -161,11 +161,8 @@ func emitTraceHarness(w io.Writer, p *Plan) error {
 	f.Func().Id(traceHook).Params(
 		jen.List(jen.Id("iteration"), jen.Id("evaluations")).Int(),
 		jen.Id("x").Add(vec.Clone()), jen.Id("fx").Id(s.Elem), jen.Id("g").Add(vec.Clone()),
-		jen.List(jen.Id("step"), jen.Id("slope")).Id(s.Elem), jen.Id("lim").Id(p.M.Name+"Limits"),
+		jen.List(jen.Id("step"), jen.Id("slope")).Id(s.Elem),
 	).Block(
-		jen.If(jen.Id("iteration").Op("==").Lit(0)).Block(
-			jen.Qual("fmt", "Printf").Call(jen.Lit("thalweg-limits\t%v\t%v\t%d\t%d\n"), float(jen.Id("lim").Dot("Gradient")), float(jen.Id("lim").Dot("Step")), jen.Id("lim").Dot("Iterations"), jen.Id("lim").Dot("Evaluations")),
-		),
 		jen.Id("largest").Op(":=").Lit(0.0),
 		jen.For(jen.List(jen.Id("_"), jen.Id("v")).Op(":=").Range().Id("g")).Block(
 			jen.If(jen.Id("a").Op(":=").Qual("math", "Abs").Call(float(jen.Id("v"))), jen.Id("a").Op(">").Id("largest").Op("||").Id("a").Op("!=").Id("a")).Block(jen.Id("largest").Op("=").Id("a")),
@@ -199,7 +196,9 @@ func emitTraceHarness(w io.Writer, p *Plan) error {
 		test = append(test, jen.Id("recv").Op(":=").Id("thalwegTraceReceiver").Call())
 	}
 	test = append(test,
-		jen.Id("r").Op(":=").Id(p.M.Name).Call(append(recvArg, literal(p, p.M.Start))...),
+		jen.Id("lim").Op(":=").Id(p.M.Name+"DefaultLimits").Call(),
+		jen.Qual("fmt", "Printf").Call(jen.Lit("thalweg-limits\t%v\t%v\t%d\t%d\n"), float(jen.Id("lim").Dot("Gradient")), float(jen.Id("lim").Dot("Step")), jen.Id("lim").Dot("Iterations"), jen.Id("lim").Dot("Evaluations")),
+		jen.Id("r").Op(":=").Id(p.M.Name+"WithLimits").Call(append(append(recvArg, literal(p, p.M.Start)), jen.Id("lim"))...),
 		jen.Qual("fmt", "Printf").Call(jen.Lit("thalweg-result\t%s\t%v\t%d\t%d\t%v\t%d\n"), jen.Id("r").Dot("Status"), jen.Id("r").Dot("Status").Dot("Converged").Call(), jen.Id("r").Dot("Iterations"), jen.Id("r").Dot("Evaluations"), float(jen.Id("r").Dot("F")), jen.Id("thalwegTraceTrials")),
 	)
 	if plane {

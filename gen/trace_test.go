@@ -107,6 +107,14 @@ func TestTraceTable(t *testing.T) {
 		t.Errorf("outcome lines missing:\n%s", buf.String())
 	}
 
+	// A run that ended before its first gradient still states its limits.
+	empty := &TraceResult{Limits: res.Limits, Status: "non-finite start", Evaluations: 1, F: math.NaN()}
+	buf.Reset()
+	WriteTraceTable(&buf, tracePlan(2), empty)
+	if !strings.Contains(buf.String(), "≤ 1e-6 or every") || !strings.HasSuffix(buf.String(), "f = NaN\nno rows: the run ended before its first gradient\n") {
+		t.Errorf("table of a run without rows:\n%s", buf.String())
+	}
+
 	// Differences add their column.
 	p := tracePlan(2)
 	p.M.Derivative = "central"
