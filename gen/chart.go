@@ -199,9 +199,17 @@ func drawConvergence(b *strings.Builder, res *TraceResult, main, strip frame) {
 	fmt.Fprintf(b, `<text x="%.1f" y="%.1f">objective calls per move:</text>`, strip.left, strip.top-8)
 	lx = strip.left + 170
 	fmt.Fprintf(b, `<rect x="%.1f" y="%.1f" width="10" height="10" fill="%s"/><text x="%.1f" y="%.1f">line-search trials</text>`, lx, strip.top-17, inkTrials, lx+14, strip.top-8)
-	fmt.Fprintf(b, `<rect x="%.1f" y="%.1f" width="10" height="10" fill="%s"/><text x="%.1f" y="%.1f">finite differences</text>`+"\n", lx+136, strip.top-17, inkDiffCalls, lx+150, strip.top-8)
+	lx += 136
+	differences := false
+	for _, r := range res.Rows {
+		differences = differences || r.GradientCalls > 0
+	}
+	if differences {
+		fmt.Fprintf(b, `<rect x="%.1f" y="%.1f" width="10" height="10" fill="%s"/><text x="%.1f" y="%.1f">finite differences</text>`+"\n", lx, strip.top-17, inkDiffCalls, lx+14, strip.top-8)
+		lx += 136
+	}
 	if res.LastTrials > 0 {
-		fmt.Fprintf(b, `<rect x="%.1f" y="%.1f" width="10" height="10" fill="none" stroke="%s" stroke-dasharray="3 2"/><text x="%.1f" y="%.1f">last search</text>`+"\n", lx+272, strip.top-17, inkTrials, lx+286, strip.top-8)
+		fmt.Fprintf(b, `<rect x="%.1f" y="%.1f" width="10" height="10" fill="none" stroke="%s" stroke-dasharray="3 2"/><text x="%.1f" y="%.1f">last search</text>`+"\n", lx, strip.top-17, inkTrials, lx+14, strip.top-8)
 	}
 }
 
