@@ -8,6 +8,8 @@ import (
 	"strconv"
 	"strings"
 	"text/tabwriter"
+
+	"github.com/thalweg-go/thalweg/rules"
 )
 
 // SelectPlan resolves the spec and returns the minimizer called name, or
@@ -30,35 +32,149 @@ func SelectPlan(specPath, name string) (*Plan, error) {
 	return nil, Problems{{Pos{specPath, 1, 1}, fmt.Sprintf("no minimizer %s in the spec; it has %s", name, strings.Join(names, ", "))}}
 }
 
-// WriteTraceTable prints one row per iteration and the outcome.
+// traceColumns are the columns of the trace table and of the CSV: our
+// own names, each the answer to one question about a step (see the
+// README's section on trace). The table leaves out "difference calls"
+// for an analytic gradient, where it is always 0.
+var traceColumns = []struct {
+	table, csv string
+}{
+	{"move", "move"},                          // 0 is the start, then each accepted step
+	{"trials", "trials"},                      // points the line search evaluated for this move
+	{"difference calls", "difference_calls"},  // objective calls for finite-difference gradients in this move
+	{"calls left", "calls_left"},              // evaluation cap − calls so far
+	{"f", "f"},                                // the objective after the move
+	{"decrease/predicted", "decrease_ratio"},  // (f before − f after) / (−t·∇fᵀd)
+	{"step t", "step_t"},                      // the accepted step along d
+	{"step/limit", "step_over_limit"},         // largest |Δxᵢ|/(|xᵢ|+1) over the step limit; ≤ 1 stops
+	{"gradient/limit", "gradient_over_limit"}, // largest |∂f/∂xᵢ| over the gradient limit; ≤ 1 stops
+}
+
+// traceCells is one row's values in traceColumns order; cells that do not
+// apply to the start are empty. format renders the ratios and the step.
+func traceCells(res *TraceResult, r TraceRow, format func(float64) string, fFormat func(float64) string) []string {
+	cells := []string{strconv.Itoa(r.Iteration), "", strconv.Itoa(r.GradientCalls), strconv.Itoa(res.CallsLeft(r)), fFormat(r.F), "", "", "", format(ratio(r.Gradient, res.Limits.Gradient))}
+	if r.Iteration > 0 {
+		cells[1] = strconv.Itoa(r.Trials)
+		cells[5] = format(r.DecreaseRatio())
+		cells[6] = format(r.Step)
+		cells[7] = format(ratio(r.StepMeasure, res.Limits.Step))
+	}
+	return cells
+}
+
+// ratio is measure/limit, +Inf for a positive measure over a zero limit.
+func ratio(measure, limit float64) float64 {
+	if limit == 0 && measure == 0 {
+		return 0
+	}
+	return measure / limit
+}
+
+// WriteTraceTable prints what the run was asked to do, one row per move
+// and the outcome.
 func WriteTraceTable(w io.Writer, p *Plan, res *TraceResult) error {
-	fmt.Fprintf(w, "%s: direction %s, step rule %s, derivative %s, from start %s\n\n", p.M.Name, p.Direction.Name, p.Rule.Name, p.Derivative.Name, formatNumbers(p.M.Start))
+	fmt.Fprintf(w, "%s: %s direction, %s step rule, %s gradient, from %s\n", p.M.Name, p.Direction.Name, p.Rule.Name, p.Derivative.Name, formatNumbers(p.M.Start))
+	l := res.Limits
+	fmt.Fprintf(w, "stops when the largest |∂f/∂xᵢ| ≤ %s or every |Δxᵢ| ≤ %s·(|xᵢ| + 1), after at most %d moves and %d objective calls\n\n",
+		compactFloat(l.Gradient, 3), compactFloat(l.Step, 3), l.Iterations, l.Evaluations)
+	differences := p.Derivative != rules.Analytic
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', tabwriter.AlignRight)
-	fmt.Fprintln(tw, "iteration\tobjective calls\tf\tlargest |gradient|\taccepted step\t")
-	for _, r := range res.Rows {
-		step := "—"
-		if r.Iteration > 0 {
-			step = strconv.FormatFloat(r.Step, 'g', 6, 64)
+	var header []string
+	for i, c := range traceColumns {
+		if i == 2 && !differences {
+			continue
 		}
-		fmt.Fprintf(tw, "%d\t%d\t%s\t%s\t%s\t\n", r.Iteration, r.Evaluations,
-			strconv.FormatFloat(r.F, 'g', 10, 64), strconv.FormatFloat(r.Gradient, 'g', 4, 64), step)
+		header = append(header, c.table)
+	}
+	fmt.Fprintln(tw, strings.Join(header, "\t")+"\t")
+	short := func(v float64) string { return compactFloat(v, 3) }
+	long := func(v float64) string { return strconv.FormatFloat(v, 'g', 10, 64) }
+	u := rules.Roundoff(p.Shape.Elem)
+	for i, r := range res.Rows {
+		cells := traceCells(res, r, short, long)
+		if i > 0 && math.Abs(r.Decrease) <= 64*u*math.Max(math.Abs(r.F), math.Abs(res.Rows[i-1].F)) {
+			cells[5] = "rounding" // the change in f is rounding noise: the ratio says nothing
+		}
+		for i := range cells {
+			if cells[i] == "" {
+				cells[i] = "—"
+			}
+		}
+		if !differences {
+			cells = append(cells[:2], cells[3:]...)
+		}
+		fmt.Fprintln(tw, strings.Join(cells, "\t")+"\t")
 	}
 	if err := tw.Flush(); err != nil {
 		return err
 	}
-	verdict := "not converged"
-	if res.Converged {
-		verdict = "converged"
+	fmt.Fprintf(w, "\n%s (%s) after %d iterations and %d objective calls; f = %s\n", res.Status, verdict(res.Converged), res.Iterations, res.Evaluations, strconv.FormatFloat(res.F, 'g', 17, 64))
+	if note := traceEnding(res); note != "" {
+		fmt.Fprintln(w, note)
 	}
-	_, err := fmt.Fprintf(w, "\n%s (%s) after %d iterations and %d objective calls; f = %s\n", res.Status, verdict, res.Iterations, res.Evaluations, strconv.FormatFloat(res.F, 'g', 17, 64))
-	return err
+	return nil
 }
 
-// WriteTraceCSV writes the rows with a header: iteration, objective
-// calls, f, largest gradient component, accepted step, then x.
+func verdict(converged bool) string {
+	if converged {
+		return "converged"
+	}
+	return "not converged"
+}
+
+// traceEnding says what happened after the last row, when something did.
+func traceEnding(res *TraceResult) string {
+	if len(res.Rows) == 0 {
+		return "no rows: the run ended before its first gradient"
+	}
+	last := res.Rows[len(res.Rows)-1]
+	switch {
+	case res.Iterations > last.Iteration:
+		return fmt.Sprintf("move %d (%s) was taken without its gradient: the evaluation cap came first", res.Iterations, plural(res.LastTrials, "trial"))
+	case res.LastTrials > 0:
+		return fmt.Sprintf("the last line search spent %s and accepted none", plural(res.LastTrials, "trial"))
+	case res.Evaluations > last.Evaluations:
+		return fmt.Sprintf("%s after the last move accepted no step", plural(res.Evaluations-last.Evaluations, "objective call"))
+	}
+	return ""
+}
+
+func plural(n int, word string) string {
+	if n == 1 {
+		return "1 " + word
+	}
+	return strconv.Itoa(n) + " " + word + "s"
+}
+
+// compactFloat renders v with the given significant digits and a short
+// exponent: 0.0123, 4.5e-9, 1.2e13.
+func compactFloat(v float64, digits int) string {
+	s := strconv.FormatFloat(v, 'g', digits, 64)
+	if i := strings.IndexByte(s, 'e'); i >= 0 {
+		mant, exp := s[:i], s[i+1:]
+		sign := ""
+		if exp[0] == '-' {
+			sign = "-"
+		}
+		exp = strings.TrimLeft(exp, "+-0")
+		if exp == "" {
+			exp = "0"
+		}
+		s = mant + "e" + sign + exp
+	}
+	return s
+}
+
+// WriteTraceCSV writes the table's columns, with full precision and the
+// difference calls always present, then x₁…x_N; cells that do not apply
+// to the start are empty.
 func WriteTraceCSV(w io.Writer, res *TraceResult) error {
 	cw := csv.NewWriter(w)
-	header := []string{"iteration", "evaluations", "f", "gradient_max", "step"}
+	var header []string
+	for _, c := range traceColumns {
+		header = append(header, c.csv)
+	}
 	if len(res.Rows) > 0 {
 		for i := range res.Rows[0].X {
 			header = append(header, "x"+strconv.Itoa(i+1))
@@ -66,7 +182,7 @@ func WriteTraceCSV(w io.Writer, res *TraceResult) error {
 	}
 	cw.Write(header)
 	for _, r := range res.Rows {
-		rec := []string{strconv.Itoa(r.Iteration), strconv.Itoa(r.Evaluations), fmtFloat(r.F), fmtFloat(r.Gradient), fmtFloat(r.Step)}
+		rec := traceCells(res, r, fmtFloat, fmtFloat)
 		for _, v := range r.X {
 			rec = append(rec, fmtFloat(v))
 		}
@@ -87,74 +203,6 @@ func formatNumbers(v []float64) string {
 		return s[0]
 	}
 	return "[" + strings.Join(s, ", ") + "]"
-}
-
-// WriteTraceSVG draws the convergence chart: log10 of the largest
-// gradient component and of f − f_final against the iteration.
-func WriteTraceSVG(w io.Writer, p *Plan, res *TraceResult) error {
-	const width, height, left, right, top, bottom = 720.0, 400.0, 70.0, 20.0, 40.0, 50.0
-	final := res.F
-	type series struct {
-		name, color string
-		points      [][2]float64 // iteration, log10 value
-	}
-	grad := series{name: "log₁₀ largest |gradient|", color: "#1f77b4"}
-	gap := series{name: "log₁₀ (f − final f)", color: "#d62728"}
-	for _, r := range res.Rows {
-		if v := math.Abs(r.Gradient); v > 0 && !math.IsInf(v, 0) && !math.IsNaN(v) {
-			grad.points = append(grad.points, [2]float64{float64(r.Iteration), math.Log10(v)})
-		}
-		if v := r.F - final; v > 0 && !math.IsInf(v, 0) {
-			gap.points = append(gap.points, [2]float64{float64(r.Iteration), math.Log10(v)})
-		}
-	}
-	lastIteration, low, high := 1.0, math.Inf(1), math.Inf(-1)
-	for _, s := range []series{grad, gap} {
-		for _, pt := range s.points {
-			lastIteration = math.Max(lastIteration, pt[0])
-			low, high = math.Min(low, pt[1]), math.Max(high, pt[1])
-		}
-	}
-	if math.IsInf(low, 0) {
-		low, high = -1, 1
-	}
-	low, high = math.Floor(low), math.Ceil(high)
-	if high == low {
-		high = low + 1
-	}
-	x := func(it float64) float64 { return left + (width-left-right)*it/lastIteration }
-	y := func(v float64) float64 { return top + (height-top-bottom)*(high-v)/(high-low) }
-
-	var b strings.Builder
-	fmt.Fprintf(&b, `<svg xmlns="http://www.w3.org/2000/svg" width="%g" height="%g" viewBox="0 0 %g %g" font-family="sans-serif" font-size="12">`+"\n", width, height, width, height)
-	fmt.Fprintf(&b, `<rect width="100%%" height="100%%" fill="white"/>`+"\n")
-	fmt.Fprintf(&b, `<text x="%g" y="20" font-size="14">%s: %s (%d iterations, %d objective calls)</text>`+"\n", left, xmlEscape(p.M.Name), xmlEscape(res.Status), res.Iterations, res.Evaluations)
-	// Axes with a tick per decade (at most 12) and per iteration step.
-	fmt.Fprintf(&b, `<line x1="%g" y1="%g" x2="%g" y2="%g" stroke="black"/>`+"\n", left, top, left, height-bottom)
-	fmt.Fprintf(&b, `<line x1="%g" y1="%g" x2="%g" y2="%g" stroke="black"/>`+"\n", left, height-bottom, width-right, height-bottom)
-	decade := math.Max(1, math.Ceil((high-low)/12))
-	for v := low; v <= high; v += decade {
-		fmt.Fprintf(&b, `<line x1="%g" y1="%.1f" x2="%g" y2="%.1f" stroke="#ddd"/><text x="%g" y="%.1f" text-anchor="end">%g</text>`+"\n", left, y(v), width-right, y(v), left-6, y(v)+4, v)
-	}
-	stepX := math.Max(1, math.Ceil(lastIteration/10))
-	for it := 0.0; it <= lastIteration; it += stepX {
-		fmt.Fprintf(&b, `<text x="%.1f" y="%g" text-anchor="middle">%g</text>`+"\n", x(it), height-bottom+18, it)
-	}
-	fmt.Fprintf(&b, `<text x="%g" y="%g" text-anchor="middle">iteration</text>`+"\n", (left+width-right)/2, height-10)
-	for i, s := range []series{grad, gap} {
-		if len(s.points) > 0 {
-			var pts []string
-			for _, pt := range s.points {
-				pts = append(pts, fmt.Sprintf("%.1f,%.1f", x(pt[0]), y(pt[1])))
-			}
-			fmt.Fprintf(&b, `<polyline fill="none" stroke="%s" stroke-width="2" points="%s"/>`+"\n", s.color, strings.Join(pts, " "))
-		}
-		fmt.Fprintf(&b, `<line x1="%g" y1="%d" x2="%g" y2="%d" stroke="%s" stroke-width="2"/><text x="%g" y="%d">%s</text>`+"\n",
-			width-right-210, 40+16*i, width-right-190, 40+16*i, s.color, width-right-185, 44+16*i, xmlEscape(s.name))
-	}
-	b.WriteString("</svg>\n")
-	_, err := io.WriteString(w, b.String())
-	return err
 }
 
 func xmlEscape(s string) string {

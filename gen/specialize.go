@@ -164,9 +164,12 @@ type kernelChoice struct {
 	provided map[string]string
 	prefix   string // lowerCamel minimizer name
 	// trace keeps the calls of the observe hook, renamed to traceHook;
-	// otherwise they are deleted.
-	trace     bool
-	traceHook string
+	// otherwise they are deleted. It also wraps every objective call of
+	// the chosen line search, each a trial, as traceTrial(xt, f(xt)), so
+	// that the recorder counts and sees the trials.
+	trace      bool
+	traceHook  string
+	traceTrial string
 }
 
 // specializedKernels holds the rewritten declarations and what they need.
@@ -300,6 +303,7 @@ type rewriter struct {
 	c        kernelChoice
 	newName  map[types.Object]string
 	usesMath bool
+	trials   bool // the declaration being rewritten is the line search, and trials are traced
 }
 
 func (rw *rewriter) obj(id *ast.Ident) types.Object {
@@ -318,12 +322,16 @@ func (rw *rewriter) obj(id *ast.Ident) types.Object {
 //     function;
 //   - rewrite elem to float32/float64, vec to [N]T, dim to N and receiver
 //     to the user's receiver type;
-//   - rename every package-level template name to its generated name.
+//   - rename every package-level template name to its generated name;
+//   - delete the calls of the observe hook, or, for tracing, point them at
+//     the recorder and wrap the line search's objective calls (its trials)
+//     in the trial recorder.
 func (rw *rewriter) rewrite(d ast.Decl) ast.Decl {
 	// The passes run after a node's children (post-order), so a node's
 	// type information is read while the node itself is still the one the
 	// type checker saw; replaced children are new nodes without it.
 	s := rw.c.shape
+	rw.trials = rw.c.trace && declName(d) == rw.c.pick["lineSearch"]
 	result := astutil.Apply(d, nil, func(cur *astutil.Cursor) bool {
 		switch n := cur.Node().(type) {
 		case *ast.ExprStmt:
@@ -339,7 +347,12 @@ func (rw *rewriter) rewrite(d ast.Decl) ast.Decl {
 			}
 		case *ast.CallExpr:
 			if rw.isRecvCall(n, "objective") {
-				cur.Replace(rw.objectiveCall(n))
+				call := rw.objectiveCall(n)
+				if rw.trials {
+					// traceTrial(xt, f(xt)): the trial point, then its value.
+					call = &ast.CallExpr{Fun: &ast.Ident{Name: rw.c.traceTrial, NamePos: n.Pos()}, Args: []ast.Expr{n.Args[0], call}, Lparen: n.Lparen, Rparen: n.Rparen}
+				}
+				cur.Replace(call)
 				return true
 			}
 			if s.Elem == "float64" && len(n.Args) == 1 {

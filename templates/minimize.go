@@ -44,7 +44,7 @@ func minimize(recv *receiver, x0 vec, lim limits) outcome {
 	var g vec
 	derivative(recv, &x, fx, &g)
 	out.evaluations += derivativeCost
-	observe(0, out.evaluations, &x, fx, &g, 0)
+	observe(0, out.evaluations, &x, fx, &g, 0, 0)
 
 	if !finiteVec(&g) {
 		out.status = statusNonFiniteGradient
@@ -122,7 +122,7 @@ func minimize(recv *receiver, x0 vec, lim limits) outcome {
 		x, fx, g = xt, found.value, gt
 		out.x, out.f = x, fx
 		t, slope = found.step, now
-		observe(out.iterations, out.evaluations, &x, fx, &g, t)
+		observe(out.iterations, out.evaluations, &x, fx, &g, t, slope)
 
 		if !finiteVec(&g) {
 			out.status = statusNonFiniteGradient

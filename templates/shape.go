@@ -32,11 +32,17 @@ func (r *receiver) gradient(x, g *vec) {
 }
 
 // observe stands in for the hook of `thalweg trace`, called with the state
-// after the first gradient and after every accepted step. gen deletes its
+// after the first gradient (iteration 0) and after every accepted step:
+// the objective calls so far, x, f(x) and ∇f(x), the accepted step t and
+// the slope ∇fᵀd where the search that found it began (both 0 at
+// iteration 0), so that the recorder can set the decrease achieved
+// against the decrease −t·∇fᵀd the line model predicted. gen deletes its
 // calls from every minimizer it writes and keeps them, pointed at a
 // recorder, only in the copy it compiles for tracing. Each call is
-// followed by a blank line, so that deleting it leaves the layout intact.
-func observe(iteration, evaluations int, x *vec, fx elem, g *vec, step elem) {}
+// followed by a blank line, so that deleting it leaves the layout intact,
+// and passes only local values, so that deleting it leaves no
+// declaration behind.
+func observe(iteration, evaluations int, x *vec, fx elem, g *vec, step, slope elem) {}
 
 // status stands in for the spec's status type.
 type status uint8

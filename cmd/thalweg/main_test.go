@@ -2,6 +2,7 @@ package main
 
 import (
 	"bytes"
+	"encoding/xml"
 	"fmt"
 	"io/fs"
 	"os"
@@ -611,35 +612,92 @@ func TestTrace(t *testing.T) {
 	if d := sameFiles(before, snapshot(t, ".")); d != "" {
 		t.Errorf("trace changed the package: %s", d)
 	}
-	if !strings.Contains(stdout, "gradient small (converged) after") || !strings.Contains(stdout, "iteration") {
-		t.Errorf("trace output lacks the table or the outcome:\n%s", stdout)
+	if !strings.Contains(stdout, "gradient small (converged) after") {
+		t.Errorf("trace output lacks the outcome:\n%s", stdout)
+	}
+	// The table's header: trials, calls left, decrease against prediction,
+	// both stop measures over their limits; no column for differences with
+	// Calibrate's analytic gradient.
+	var header []string
+	for _, line := range strings.Split(stdout, "\n") {
+		if f := strings.Fields(line); len(f) > 0 && f[0] == "move" {
+			header = f
+		}
+	}
+	if want := "move trials calls left f decrease/predicted step t step/limit gradient/limit"; strings.Join(header, " ") != want {
+		t.Errorf("table header %q, want %q:\n%s", strings.Join(header, " "), want, stdout)
 	}
 	data, err := os.ReadFile(csvPath)
 	if err != nil {
 		t.Fatal(err)
 	}
 	lines := strings.Split(strings.TrimSpace(string(data)), "\n")
-	if lines[0] != "iteration,evaluations,f,gradient_max,step,x1,x2" {
+	if lines[0] != "move,trials,difference_calls,calls_left,f,decrease_ratio,step_t,step_over_limit,gradient_over_limit,x1,x2" {
 		t.Errorf("CSV header %q", lines[0])
 	}
 	// One row for the start and one per iteration; the iteration count is
 	// the one the outcome line reports.
-	var iterations int
+	var iterations, evaluations int
 	for _, line := range strings.Split(stdout, "\n") {
 		if strings.Contains(line, "(converged) after") {
-			fmt.Sscanf(line[strings.Index(line, "after")+len("after"):], "%d", &iterations)
+			fmt.Sscanf(line[strings.Index(line, "after")+len("after"):], "%d iterations and %d", &iterations, &evaluations)
 		}
 	}
 	if iterations == 0 || len(lines) != iterations+2 {
-		t.Errorf("CSV has %d lines for %d iterations", len(lines), iterations)
+		t.Fatalf("CSV has %d lines for %d iterations", len(lines), iterations)
+	}
+	// The calls left fall by each move's trials (no differences here), and
+	// at the end they are the cap (2000) less the run's calls; the last
+	// move's gradient is within its limit (≤ 1), every Armijo step's
+	// decrease ratio at least c1 = 1e-4.
+	left := 2000 - 1
+	for i, line := range lines[1:] {
+		cells := strings.Split(line, ",")
+		if cells[0] != strconv.Itoa(i) {
+			t.Errorf("CSV row %d is move %s", i, cells[0])
+		}
+		trials, _ := strconv.Atoi(cells[1])
+		callsLeft, _ := strconv.Atoi(cells[3])
+		if left -= trials; cells[2] != "0" || callsLeft != left {
+			t.Errorf("move %d: %d trials, %s difference calls, %d calls left; want %d left", i, trials, cells[2], callsLeft, left)
+		}
+		if i > 0 {
+			if ratio, err := strconv.ParseFloat(cells[5], 64); err != nil || !(ratio >= 1e-4) || trials < 1 {
+				t.Errorf("move %d: decrease ratio %q after %d trials", i, cells[5], trials)
+			}
+		}
+	}
+	if left != 2000-evaluations {
+		t.Errorf("the rows leave %d calls, the run made %d of 2000", left, evaluations)
 	}
 	last := strings.Split(lines[len(lines)-1], ",")
-	if last[0] != strconv.Itoa(iterations) {
-		t.Errorf("last CSV row is iteration %s, want %d", last[0], iterations)
+	if g, _ := strconv.ParseFloat(last[8], 64); !(g <= 1) {
+		t.Errorf("converged on the gradient, but the last gradient/limit is %s", last[8])
 	}
 	svg, err := os.ReadFile(svgPath)
-	if err != nil || !strings.HasPrefix(string(svg), "<svg") || !strings.Contains(string(svg), "<polyline") {
-		t.Errorf("SVG missing or without a curve: %v", err)
+	if err != nil {
+		t.Fatal(err)
+	}
+	// Calibrate has two unknowns: the chart has contours and the path.
+	for _, want := range []string{"<svg", `<line class="limit"`, `class="marker"`, `<path class="contour"`, `<circle class="iterate"`, `<rect class="start"`} {
+		if !strings.Contains(string(svg), want) {
+			t.Errorf("the SVG lacks %s", want)
+		}
+	}
+	if err := xml.Unmarshal(svg, new(struct{})); err != nil {
+		t.Errorf("the SVG is not well-formed: %v", err)
+	}
+	// TuneGain has one: no contour panel, and a column for its central
+	// differences.
+	code, stdout, stderr = thalweg("trace", "quickstart.toml", "--name", "TuneGain", "--svg", svgPath)
+	if code != 0 {
+		t.Fatalf("trace TuneGain exited %d:\n%s%s", code, stdout, stderr)
+	}
+	if !strings.Contains(stdout, "difference calls") {
+		t.Errorf("TuneGain's table has no column for differences:\n%s", stdout)
+	}
+	if svg, _ := os.ReadFile(svgPath); !strings.Contains(string(svg), `class="marker"`) || strings.Contains(string(svg), "contour") {
+		t.Errorf("TuneGain's SVG lacks markers or has contours")
 	}
 
 	code, _, stderr = thalweg("trace", "quickstart.toml")
