@@ -93,7 +93,7 @@ and marks the recommended row and the spec's own choice.`,
 	}, {
 		name:     "trace",
 		synopsis: "SPEC [--name NAME] [--csv FILE] [--svg FILE]",
-		summary:  "run a minimizer once from start and print one row per iteration",
+		summary:  "run a minimizer once from start and print one row per accepted step",
 		args:     [][2]string{{"SPEC", "a spec file (TOML)"}},
 		flags: func(f *pflag.FlagSet, o *options) {
 			nameFlag(f, o)
@@ -101,8 +101,10 @@ and marks the recommended row and the spec's own choice.`,
 			f.StringVar(&o.svg, "svg", "", "also draw the convergence chart to this SVG `FILE`")
 		},
 		notes: `The minimizer is compiled with your package through go test -overlay
-(nothing is written into the package). Each row shows the objective
-calls so far, f, the largest gradient component and the accepted step.`,
+(nothing is written into the package). Each row shows the line search's
+trials, the calls left, f, the decrease against the line model's
+prediction, the step, and the step and gradient against their limits;
+--svg adds, for two unknowns, contours of f under the path.`,
 		run: runTrace,
 	}, {
 		name:    "rules",
