@@ -145,7 +145,7 @@ start = "one"`, []misfitWant{
 	}},
 	{"start not finite", `objective = "ScalarObj"
 start = nan`, []misfitWant{
-		misfitInSpec(2, 9, "start must be finite"),
+		misfitInSpec(2, 9, "start must be finite: replace it with a typical starting point (thalweg init writes nan there on purpose)"),
 	}},
 	{"expect.x of the wrong shape", `objective = "ArrayObj"
 start = [1.0, 2.0]

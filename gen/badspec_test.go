@@ -176,7 +176,7 @@ var badSpecs = []struct {
 	{"nan_values.toml", []string{
 		"7:10: step.shrink must be in (0, 1), got NaN",
 		"8:11: step.initial must be in (0, ∞), got NaN",
-		"11:8: stop.step must be in [0, ∞), got NaN",
+		"12:8: stop.step must be in [0, ∞), got NaN",
 	}},
 	{"curvature_not_wolfe.toml", []string{
 		`8:1: step.curvature is not used by rule "armijo"`,
@@ -220,12 +220,12 @@ var badSpecs = []struct {
 		"6:2: expect needs x, the expected minimizer, or status, the expected end",
 	}},
 	{"expect_status_unknown.toml", []string{
-		`7:10: expect.status "diverged" is not one of "gradient small", "step tiny", "out of iterations", "out of evaluations", "no acceptable step", "non-finite start", "non-finite gradient", "no decrease"`,
+		`7:10: expect.status "exploded" is not one of "gradient small", "stalled", "out of iterations", "out of evaluations", "no acceptable step", "non-finite start", "non-finite gradient", "no decrease", "diverged"`,
 	}},
 
 	// Minimizers written as inline tables keep value positions.
 	{"inline_tables.toml", []string{
-		"2:70: step.shrink must be in (0, 1), got 1.5",
+		"2:87: step.shrink must be in (0, 1), got 1.5",
 		"3:80: stop.gradient must be in [0, ∞), got -1",
 	}},
 	// Many errors in two minimizers, reported together and sorted by
@@ -236,6 +236,7 @@ var badSpecs = []struct {
 		`2:8: name "fit" is not an exported Go identifier`,
 		`3:14: derivative = "analytic" needs a gradient key naming the gradient function`,
 		`5:1: memory is only used with direction = "lbfgs" (direction is "cg")`,
+		`8:8: direction "cg" needs a step rule with a curvature condition: with "fixed" its directions need not descend (Nocedal & Wright 2006, §5.2); use step.rule = "strong-wolfe"`,
 		`9:1: step.shrink is not used by rule "fixed"`,
 		"12:14: stop.iterations must be in [1, 1e+09], got -5",
 		`15:8: name "Fit-2" is not an exported Go identifier`,
@@ -367,7 +368,7 @@ func TestBadSpecSnippets(t *testing.T) {
 		{"duplicate key", "[[minimizer]]\nname = \"Fit\"\nname = \"Fit2\"\n", []string{
 			"3:1: key name is already defined",
 		}},
-		{"dotted keys", head + "step.shrink = 2.0\nstop.iterations = 0\n", []string{
+		{"dotted keys", head + "step.shrink = 2.0\nstop.iterations = 0\nstep.rule = \"armijo\"\n", []string{
 			"5:15: step.shrink must be in (0, 1), got 2",
 			"6:19: stop.iterations must be in [1, 1e+09], got 0",
 		}},
@@ -391,6 +392,13 @@ func TestBadSpecSnippets(t *testing.T) {
 		{"type error beside unknown key", "bogus = 1\n" + head + "direction = \"lbfgs\"\nmemory = \"x\"\n", []string{
 			`1:1: unknown key "bogus"`,
 			"7:10: memory must be a whole number, not a TOML string",
+		}},
+		// cg needs a rule with a curvature condition.
+		{"cg with backtracking", head + "direction = \"cg\"\n[minimizer.step]\nrule = \"armijo\"\n", []string{
+			`7:8: direction "cg" needs a step rule with a curvature condition: with "armijo" its directions need not descend (Nocedal & Wright 2006, §5.2); use step.rule = "strong-wolfe"`,
+		}},
+		{"unknown gradient test", head + "[minimizer.stop]\ngradient_test = \"relativ\"\n", []string{
+			`6:17: stop.gradient_test "relativ" is not one of "absolute", "relative"; did you mean "relative"?`,
 		}},
 		// Two minimizers without a name: each is named once, with no
 		// cascade about the output file they would share.

@@ -125,7 +125,7 @@ func emitStatus(f *jen.File, p *Plan) {
 	cases = append(cases, jen.Default().Block(jen.Return(jen.Lit("unknown status"))))
 	f.Comment("String describes the status in a few words.")
 	f.Func().Params(jen.Id("s").Id(name)).Id("String").Params().String().Block(jen.Switch(jen.Id("s")).Block(cases...))
-	f.Comment("Converged reports whether a convergence test, on the gradient or on the step, ended the run; limits, line-search failure and non-finite values are not convergence.")
+	f.Comment("Converged reports whether the gradient test holds at X (Gradient ≤ GradientLimit in the result): only then is X a verified stationary point; a stall, the limits, line-search failure and non-finite values are not convergence.")
 	f.Func().Params(jen.Id("s").Id(name)).Id("Converged").Params().Bool().Block(jen.Return(converged))
 }
 
@@ -138,8 +138,10 @@ func emitTypes(f *jen.File, p *Plan) {
 	name, elem := p.M.Name, p.Shape.Elem
 	f.Commentf("%sResult is where %s stopped and why.", name, name)
 	f.Type().Id(name+"Result").Struct(
-		jen.Id("X").Add(xType(p)).Comment("the last accepted point, the best one found"),
+		jen.Id("X").Add(xType(p)).Comment("where the gradient test held, when converged; else the lowest point seen"),
 		jen.Id("F").Id(elem).Comment("the objective at X"),
+		jen.Id("Gradient").Id(elem).Comment("the gradient test's measure at X, the differences' error bound included; NaN when the run ended before the gradient at X was known"),
+		jen.Id("GradientLimit").Id(elem).Comment("the limit Gradient was held to: Limits.Gradient, raised with differences to ten times the measure of their error bound; converged runs have Gradient ≤ GradientLimit"),
 		jen.Id("Iterations").Int().Comment("accepted steps"),
 		jen.Id("Evaluations").Int().Comment("objective calls, finite differences included"),
 		jen.Id("Status").Id(name+"Status").Comment("why the run stopped; check Status.Converged()"),
@@ -201,7 +203,9 @@ func emitEntry(f *jen.File, p *Plan, kernel string) {
 		jen.Id("out").Op(":=").Id(kernel).Call(kernelArgs...),
 		jen.Return(jen.Id(name+"Result").Values(jen.Dict{
 			jen.Id("X"):           x,
-			jen.Id("F"):           jen.Id("out").Dot("f"),
+			jen.Id("F"):             jen.Id("out").Dot("f"),
+			jen.Id("Gradient"):      jen.Id("out").Dot("gradient"),
+			jen.Id("GradientLimit"): jen.Id("out").Dot("gradientLimit"),
 			jen.Id("Iterations"):  jen.Id("out").Dot("iterations"),
 			jen.Id("Evaluations"): jen.Id("out").Dot("evaluations"),
 			jen.Id("Status"):      jen.Id("out").Dot("status"),
@@ -222,6 +226,7 @@ func entryDoc(p *Plan) []string {
 		fmt.Sprintf("Direction %s: %s.", p.Direction.Name, p.Direction.Summary),
 		fmt.Sprintf("Step rule %s: %s.", p.Rule.Name, p.Rule.Summary),
 		fmt.Sprintf("Derivative %s: %s.", p.Derivative.Name, p.Derivative.Summary),
+		fmt.Sprintf("Gradient test %s: %s.", p.Test.Name, p.Test.Math),
 	}
 	var constants, stop []string
 	for _, e := range []*rules.Entry{p.Rule, p.Direction, p.Derivative} {
@@ -241,7 +246,7 @@ func entryDoc(p *Plan) []string {
 	worst, byIter := p.WorstCase()
 	perGradient := ""
 	if cost := p.GradientCalls(); cost > 0 {
-		perGradient = fmt.Sprintf(", %d of them per gradient", cost)
+		perGradient = fmt.Sprintf(", %d of them per gradient and %d per choice of the difference intervals (at the start and before each convergence is confirmed)", cost, p.Derivative.CalibrationCalls(p.Dim))
 	}
 	why := fmt.Sprintf("the evaluation cap; the iteration limit alone would allow %d", byIter)
 	if byIter < int(p.Value(rules.StopEvaluations)) {

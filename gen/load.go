@@ -281,7 +281,7 @@ func (lp *loadedPackage) resolve(spec *Spec, m *Minimizer, probs *Problems) (Sha
 	}
 	for _, v := range start {
 		if math.IsNaN(v) || math.IsInf(v, 0) {
-			probs.add(at("start"), "start must be finite")
+			probs.add(at("start"), "start must be finite: replace it with a typical starting point (thalweg init writes nan there on purpose)")
 			break
 		}
 	}
@@ -509,6 +509,9 @@ func (lp *loadedPackage) resolveInstance(m *Minimizer, shape *Shape, recvType *t
 		return
 	}
 	if m.Instance == "" {
+		if what := holdsData(recvType); what != "" {
+			probs.add(at("objective"), "objective %s is a method of %s, which holds %s: set instance to a package-level variable or a func() giving a receiver with its data, so that the generated tests run on real data (its zero value would minimize an empty model)", m.Objective, recvType.Obj().Name(), what)
+		}
 		return
 	}
 	obj := lp.pkg.Types.Scope().Lookup(m.Instance)
@@ -568,12 +571,42 @@ func checkStackSize(m *Minimizer, shape Shape, ix *positions, probs *Problems) {
 		probs.add(ix.value(m.keyPrefix+".objective"), "%d unknowns of %s (%d bytes a vector) exceed the %d bytes Go keeps on the stack: the minimizer would allocate", shape.Dim, shape.Elem, vector, maxStackVariable)
 		return
 	}
-	if m.Direction.State == nil {
-		return
+	for _, e := range ctx.Entries() {
+		if e == nil || e.State == nil {
+			continue
+		}
+		c := choiceOf(e)
+		state, what := e.State(shape.Dim, size, ctx.Value)
+		if state > maxStackVariable {
+			hint := e.SmallerState
+			if hint == "" {
+				hint = "use fewer unknowns or an analytic gradient"
+			}
+			probs.add(ix.value(m.keyPrefix+"."+c.Path()), "%s %q keeps %s %s (%d bytes) in one variable, above the %d bytes Go keeps on the stack: the minimizer would allocate; %s",
+				c.Key, e.Name, what, shape.Elem, state, maxStackVariable, hint)
+		}
 	}
-	state, what := m.Direction.State(shape.Dim, size, ctx.Value)
-	if state > maxStackVariable {
-		probs.add(ix.value(m.keyPrefix+".direction"), "direction %q keeps %s %s (%d bytes) in one variable, above the %d bytes Go keeps on the stack: the minimizer would allocate; %s",
-			m.Direction.Name, what, shape.Elem, state, maxStackVariable, m.Direction.SmallerState)
+}
+
+// holdsData says what data a receiver type holds ("2 fields", "an
+// array"), or "" when its zero value is all there is to it.
+func holdsData(t *types.Named) string {
+	switch u := t.Underlying().(type) {
+	case *types.Struct:
+		switch n := u.NumFields(); n {
+		case 0:
+			return ""
+		case 1:
+			return "a field"
+		default:
+			return fmt.Sprintf("%d fields", n)
+		}
+	case *types.Array:
+		return "an array"
+	case *types.Slice:
+		return "a slice"
+	case *types.Map:
+		return "a map"
 	}
+	return ""
 }

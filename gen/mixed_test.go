@@ -74,7 +74,7 @@ start = 1.0
 		got = append(got, p.Error())
 	}
 	want := []string{
-		mixed + `:6:10: step.shrink must be in (0, 1), got 1.5`,
+		mixed + `:6:1: step.shrink is not used by rule "wolfe"`,
 		mixed + `:10:13: objective ScalarOjb: no such function in package bad; did you mean ScalarObj?`,
 		mixed + `:22:1: unknown key "minimizer.bogus"`,
 		mixed + `:24:3: minimizers Typo and Typo would both write typo_min.go`,

@@ -47,7 +47,7 @@ func newPlan(spec *Spec, m *Minimizer, shape Shape) *Plan {
 // resolveContext fixes every parameter's value: the spec's, else the
 // default for the chosen entries, float type and dimension.
 func resolveContext(m *Minimizer, elem string, dim int) *rules.Context {
-	c := &rules.Context{Elem: elem, Dim: dim, Derivative: m.Derivative, Direction: m.Direction, Rule: m.Rule}
+	c := &rules.Context{Elem: elem, Dim: dim, Derivative: m.Derivative, Direction: m.Direction, Rule: m.Rule, Test: m.Test}
 	values := map[*rules.Param]float64{}
 	c.Value = func(p *rules.Param) float64 {
 		if v, ok := m.Given[p]; ok {
@@ -71,9 +71,16 @@ func (p *Plan) Switch(q *rules.Param) bool { return p.Value(q) != 0 }
 
 // WorstCase is the most objective calls one run can make: the evaluation
 // cap, or the iteration bound when that is smaller.
+// With differences, the start adds a calibration and every iteration may
+// add one confirmation of the gradient test (a calibration and two
+// gradients).
 func (p *Plan) WorstCase() (calls int, byIterations int) {
 	perIteration := p.Rule.IterationCalls(int(p.Value(rules.Trials)), p.GradientCalls())
-	bound := float64(1+p.GradientCalls()) + p.Value(rules.StopIterations)*float64(perIteration)
+	calibration := p.Derivative.CalibrationCalls(p.Dim)
+	if calibration > 0 {
+		perIteration += calibration + 2*p.GradientCalls()
+	}
+	bound := float64(1+calibration+p.GradientCalls()) + (p.Value(rules.StopIterations)+1)*float64(perIteration)
 	byIterations = math.MaxInt
 	if bound < math.MaxInt32 {
 		byIterations = int(bound)

@@ -40,7 +40,7 @@ type Minimizer struct {
 	Dim       int    // 0 when the spec leaves it out
 
 	// The chosen entries; nil when the spec names an unknown one.
-	Derivative, Direction, Rule *rules.Entry
+	Derivative, Direction, Rule, Test *rules.Entry
 	// Given holds the parameter values the spec sets.
 	Given map[*rules.Param]float64
 
@@ -321,6 +321,9 @@ func (r *specReader) minimizer(table map[string]any, i int) *Minimizer {
 	chosen := map[*rules.Choice]*rules.Entry{}
 	for _, c := range rules.Choices() {
 		e := c.DefaultEntry()
+		if d := chosen[rules.Direction]; c == rules.StepRule && d != nil && d.DefaultRule != nil {
+			e = d.DefaultRule // the direction's own default rule
+		}
 		path := joinPath(joinPath(key, c.Table), c.Key)
 		if v, ok := r.text(tables[c.Table], joinPath(key, c.Table), c.Key); ok {
 			var found bool
@@ -336,7 +339,10 @@ func (r *specReader) minimizer(table map[string]any, i int) *Minimizer {
 		}
 		chosen[c] = e
 	}
-	m.Derivative, m.Direction, m.Rule = chosen[rules.Derivative], chosen[rules.Direction], chosen[rules.StepRule]
+	m.Derivative, m.Direction, m.Rule, m.Test = chosen[rules.Derivative], chosen[rules.Direction], chosen[rules.StepRule], chosen[rules.GradientTest]
+	if m.Direction != nil && m.Rule != nil && m.Direction.NeedsCurvature && !m.Rule.Curvature {
+		r.add(r.ix.value(key+".step.rule"), "direction %q needs a step rule with a curvature condition: with %q its directions need not descend (Nocedal & Wright 2006, §5.2); use step.rule = %q", m.Direction.Name, m.Rule.Name, m.Direction.DefaultRule.Name)
+	}
 	r.params(m, tables, key)
 
 	gradient, hasGradient := r.text(table, key, "gradient")
@@ -407,8 +413,8 @@ func (r *specReader) output(m *Minimizer, table map[string]any, key string) {
 // range, whether a chosen entry reads it, and the order constraints
 // between parameters (c1 < c2).
 func (r *specReader) params(m *Minimizer, tables map[string]map[string]any, key string) {
-	ctx := &rules.Context{Derivative: m.Derivative, Direction: m.Direction, Rule: m.Rule}
-	complete := m.Derivative != nil && m.Direction != nil && m.Rule != nil
+	ctx := &rules.Context{Derivative: m.Derivative, Direction: m.Direction, Rule: m.Rule, Test: m.Test}
+	complete := m.Derivative != nil && m.Direction != nil && m.Rule != nil && m.Test != nil
 	for _, p := range rules.Params() {
 		v, present := tables[p.Table][p.Key]
 		if !present {

@@ -50,7 +50,7 @@ func WriteStarter(w io.Writer, dir, ref string) error {
 		var scratch Problems
 		sized := shape
 		sized.Dim = dim
-		checkStackSize(&Minimizer{Direction: d, Derivative: rules.Derivative.DefaultEntry(), Rule: rules.StepRule.DefaultEntry()},
+		checkStackSize(&Minimizer{Direction: d, Derivative: rules.Derivative.DefaultEntry(), Rule: d.DefaultRule, Test: rules.GradientTest.DefaultEntry()},
 			sized, &positions{keys: map[string]Pos{}, values: map[string]Pos{}}, &scratch)
 		if len(scratch) == 0 {
 			direction = d
@@ -104,11 +104,11 @@ func WriteStarter(w io.Writer, dir, ref string) error {
 	}
 	fmt.Fprintf(&b, "# Starter spec for %s, written by `thalweg init`: every key with its\n", ref)
 	b.WriteString("# default and what it means (`thalweg rules` explains each choice).\n")
-	b.WriteString("# Replace start with a typical point, then run `thalweg gen` on this file.\n\n")
+	b.WriteString("# Edit the lines marked REQUIRED (gen refuses them as written), then run\n# `thalweg gen` on this file.\n\n")
 	b.WriteString("[[minimizer]]\n")
 	kv("name", fmt.Sprintf("%q", name), "exported name of the generated minimizer")
 	kv("objective", fmt.Sprintf("%q", ref), signatureText(sig))
-	chosen := &Minimizer{Derivative: rules.Derivative.DefaultEntry(), Direction: direction, Rule: rules.StepRule.DefaultEntry()}
+	chosen := &Minimizer{Derivative: rules.Derivative.DefaultEntry(), Direction: direction, Rule: direction.DefaultRule, Test: rules.GradientTest.DefaultEntry()}
 	if gradient != "" {
 		chosen.Derivative = rules.Analytic
 	}
@@ -146,10 +146,12 @@ func WriteStarter(w io.Writer, dir, ref string) error {
 	}
 	choiceLine(rules.Direction, direction, note)
 	params("")
+	// nan, which gen refuses: a start of zeros is often a stationary
+	// point (a calibration's zero gain), which would converge at once.
 	if shape.Scalar() {
-		kv("start", "0.0", "a typical starting point: replace with yours")
+		kv("start", "nan", "REQUIRED: replace nan with a typical starting point")
 	} else {
-		kv("start", "["+strings.TrimSuffix(strings.Repeat("0.0, ", dim), ", ")+"]", "a typical starting point: replace with yours")
+		kv("start", "["+strings.TrimSuffix(strings.Repeat("nan, ", dim), ", ")+"]", "REQUIRED: replace nan with a typical starting point")
 	}
 	if shape.Arg == ArgSlice {
 		kv("dim", fmt.Sprint(dim), "the objective takes a slice: the number of unknowns")
@@ -157,6 +159,8 @@ func WriteStarter(w io.Writer, dir, ref string) error {
 	switch {
 	case instance != "":
 		kv("instance", fmt.Sprintf("%q", instance), "the receiver the generated tests use")
+	case recvType != nil && holdsData(recvType) != "":
+		kv("instance", `""`, "REQUIRED: a package-level variable or func() giving a "+recvType.Obj().Name()+" with its data")
 	case recvType != nil:
 		kv("# instance", `""`, "package-level variable or func() giving the receiver (default: zero value)")
 	}
@@ -165,6 +169,7 @@ func WriteStarter(w io.Writer, dir, ref string) error {
 	choiceLine(rules.StepRule, chosen.Rule, "")
 	params("step")
 	b.WriteString("\n[minimizer.stop]\n")
+	choiceLine(rules.GradientTest, chosen.Test, "")
 	params("stop")
 	b.WriteString("\n# [minimizer.expect]            # optional: the generated test asserts this minimizer\n")
 	b.WriteString("# x = ...\n# tolerance = 1e-6\n")

@@ -1,5 +1,7 @@
 package rules
 
+import "fmt"
+
 // Derivative is the spec's derivative: where the gradient comes from.
 var Derivative = &Choice{Key: "derivative", Default: "central",
 	Doc: "where the gradient comes from"}
@@ -7,27 +9,38 @@ var Derivative = &Choice{Key: "derivative", Default: "central",
 // Derivative sources.
 var (
 	Analytic = Derivative.register(&Entry{
-		Name:          "analytic",
-		Summary:       "the user's own gradient function (spec key `gradient`); costs no objective calls",
-		Math:          "g = gradient(x); the generated test checks it against central differences",
-		References:    []string{NocedalWright + ", §8.1 (gradient checking)"},
-		Picks:         Picks{"derivative": "analyticGradient"},
-		GradientCalls: func(dim int) int { return 0 },
+		Name:             "analytic",
+		Summary:          "the user's own gradient function (spec key `gradient`); costs no objective calls",
+		Math:             "g = gradient(x); the generated test checks it against central differences",
+		References:       []string{NocedalWright + ", §8.1 (gradient checking)"},
+		Picks:            Picks{"derivative": "analyticGradient", "calibrate": "calibrateNothing", "gradientError": "exactGradient"},
+		GradientCalls:    func(dim int) int { return 0 },
+		CalibrationCalls: func(dim int) int { return 0 },
 	})
 	Forward = Derivative.register(&Entry{
-		Name:          "forward",
-		Summary:       "forward differences: dim objective calls per gradient, error O(√u)",
-		Math:          "gᵢ ≈ (f(x + hᵢeᵢ) − f(x))/hᵢ, hᵢ = √u·max(1, |xᵢ|)",
-		References:    []string{NocedalWright + ", eq. 8.1 and §8.1"},
-		Picks:         Picks{"derivative": "forwardDifference"},
-		GradientCalls: func(dim int) int { return dim },
+		Name:             "forward",
+		Summary:          "forward differences: dim objective calls per gradient, intervals from the objective's curvature, error O(√u)",
+		Math:             "gᵢ ≈ (f(x + hᵢeᵢ) − f(x))/hᵢ, hᵢ = 2√(ε_A/|f''|) with f'' estimated along eᵢ (2 calls per unknown), error bound 2(hᵢ|f''|/2 + 2ε_A/hᵢ), ε_A = 4u|f|",
+		References:       []string{GillMurraySaundersWright, NocedalWright + ", eq. 8.1 and §8.1"},
+		Picks:            Picks{"derivative": "forwardDifference", "calibrate": "calibrateForward", "gradientError": "forwardError"},
+		GradientCalls:    func(dim int) int { return dim },
+		CalibrationCalls: func(dim int) int { return 2 * dim },
+		State:            differenceState,
 	})
 	Central = Derivative.register(&Entry{
-		Name:          "central",
-		Summary:       "central differences: 2·dim objective calls per gradient, error O(u^(2/3))",
-		Math:          "gᵢ ≈ (f(x + hᵢeᵢ) − f(x − hᵢeᵢ))/(2hᵢ), hᵢ = ∛u·max(1, |xᵢ|)",
-		References:    []string{NocedalWright + ", eq. 8.7 and §8.1"},
-		Picks:         Picks{"derivative": "centralDifference"},
-		GradientCalls: func(dim int) int { return 2 * dim },
+		Name:             "central",
+		Summary:          "central differences: 2·dim objective calls per gradient, intervals from the objective's curvature, error O(u^(2/3))",
+		Math:             "gᵢ ≈ (f(x + hᵢeᵢ) − f(x − hᵢeᵢ))/(2hᵢ), hᵢ = ∛(3ε_A/|f'''|) with f''' estimated along eᵢ (4 calls per unknown), error bound 2(hᵢ²|f'''|/6 + ε_A/hᵢ), ε_A = 4u|f|",
+		References:       []string{GillMurraySaundersWright, NocedalWright + ", eq. 8.7 and §8.1"},
+		Picks:            Picks{"derivative": "centralDifference", "calibrate": "calibrateCentral", "gradientError": "centralError"},
+		GradientCalls:    func(dim int) int { return 2 * dim },
+		CalibrationCalls: func(dim int) int { return 4 * dim },
+		State:            differenceState,
 	})
 )
+
+// differenceState is the intervals and curvatures differences keep: two
+// vectors in one variable.
+func differenceState(dim, elemBytes int, value func(*Param) float64) (int, string) {
+	return 2 * dim * elemBytes, fmt.Sprintf("2 vectors of %d", dim)
+}

@@ -15,7 +15,8 @@ var (
 		References: []string{
 			NocedalWright + ", §3.3 and eq. 3.60",
 		},
-		Picks: Picks{"direction": "steepestDirection"},
+		Picks:       Picks{"direction": "steepestDirection"},
+		DefaultRule: ArmijoRule,
 	})
 	BFGS = Direction.register(&Entry{
 		Name:    "bfgs",
@@ -25,7 +26,8 @@ var (
 			NocedalWright + ", eqs. 6.17 and 6.20",
 			NocedalWright + ", §6.1, condition 6.7 (why pairs with yᵀs ≤ 0 are skipped)",
 		},
-		Picks: Picks{"direction": "bfgsDirection"},
+		Picks:       Picks{"direction": "bfgsDirection"},
+		DefaultRule: WolfeRule,
 		State: func(dim, elemBytes int, value func(*Param) float64) (int, string) {
 			bytes := dim*dim*elemBytes + 8
 			return bytes, fmt.Sprintf("a %d×%d matrix of", dim, dim)
@@ -42,7 +44,8 @@ var (
 			LiuNocedal,
 			NocedalWright + ", Algorithm 7.4 and eq. 7.20",
 		},
-		Picks: Picks{"direction": "lbfgsDirection"},
+		Picks:       Picks{"direction": "lbfgsDirection"},
+		DefaultRule: WolfeRule,
 		State: func(dim, elemBytes int, value func(*Param) float64) (int, string) {
 			memory := int(value(Memory))
 			return 2*memory*dim*elemBytes + memory*elemBytes + 16, fmt.Sprintf("%d vectors (memory %d) of %d", 2*memory, memory, dim)
@@ -58,7 +61,8 @@ var (
 			PolakRibiere,
 			NocedalWright + ", eqs. 5.44–5.45, §5.2",
 		},
-		Picks: Picks{"direction": "cgDirection"},
+		Picks:       Picks{"direction": "cgDirection"},
+		DefaultRule: StrongWolfeRule,
 		// c2 = 0.1 for nonlinear conjugate gradients (Nocedal & Wright
 		// 2006, §3.1, the paragraph after eq. 3.7).
 		Defaults: map[*Param]float64{Curvature: 0.1},

@@ -151,8 +151,11 @@ type Entry struct {
 	Defaults map[*Param]float64
 
 	// GradientCalls is a derivative source's objective calls per
-	// gradient for dim unknowns.
-	GradientCalls func(dim int) int
+	// gradient for dim unknowns, and CalibrationCalls the calls of
+	// choosing its intervals (once at the start, and again, with two
+	// gradients, to confirm each convergence).
+	GradientCalls    func(dim int) int
+	CalibrationCalls func(dim int) int
 
 	// IterationCalls is a step rule's most objective calls in one
 	// iteration: its line search and the gradient at the accepted point.
@@ -163,7 +166,7 @@ type Entry struct {
 	// suits.
 	Tune bool
 
-	// State is a direction's state in bytes for dim unknowns of
+	// State is a direction's (or differences') state in bytes for dim unknowns of
 	// elemBytes each, and a phrase saying what it holds, which reads
 	// before the float type's name ("a 3×3 matrix of", "2 vectors of
 	// 3"); nil for none.
@@ -173,8 +176,10 @@ type Entry struct {
 	SmallerState string
 	Fallback     *Entry
 	// NeedsCurvature says a direction needs a step rule that enforces a
-	// curvature condition to produce descent directions.
+	// curvature condition to produce descent directions, and DefaultRule
+	// is the step rule it gets when the spec names none.
 	NeedsCurvature bool
+	DefaultRule    *Entry
 }
 
 // Reads reports whether the entry reads the parameter.
@@ -236,20 +241,20 @@ func (c *Choice) register(e *Entry) *Entry {
 }
 
 // Choices lists every choice, in spec order.
-func Choices() []*Choice { return []*Choice{Derivative, Direction, StepRule} }
+func Choices() []*Choice { return []*Choice{Derivative, Direction, StepRule, GradientTest} }
 
 // Context is what a derived default or constant may depend on: the float
 // type, the dimension, the chosen entries and the other parameters'
 // values.
 type Context struct {
-	Elem                        string // "float32" or "float64"
-	Dim                         int
-	Derivative, Direction, Rule *Entry
-	Value                       func(*Param) float64
+	Elem                              string // "float32" or "float64"
+	Dim                               int
+	Derivative, Direction, Rule, Test *Entry
+	Value                             func(*Param) float64
 }
 
-// Entries lists the chosen entries.
-func (c *Context) Entries() []*Entry { return []*Entry{c.Derivative, c.Direction, c.Rule} }
+// Entries lists the chosen entries, in the order of Choices.
+func (c *Context) Entries() []*Entry { return []*Entry{c.Derivative, c.Direction, c.Rule, c.Test} }
 
 // Reads reports whether a chosen entry reads the parameter, or every
 // minimizer does.
@@ -258,7 +263,7 @@ func (c *Context) Reads(p *Param) bool {
 		return true
 	}
 	for _, e := range c.Entries() {
-		if e.Reads(p) {
+		if e != nil && e.Reads(p) {
 			return true
 		}
 	}
@@ -269,6 +274,9 @@ func (c *Context) Reads(p *Param) bool {
 // chosen entry's own default, else the derived or plain default.
 func (c *Context) DefaultValue(p *Param) float64 {
 	for _, e := range c.Entries() {
+		if e == nil {
+			continue
+		}
 		if v, ok := e.Defaults[p]; ok {
 			return v
 		}
@@ -300,11 +308,12 @@ func Params() []*Param { return params }
 
 // Citations used by several entries.
 const (
-	NocedalWright  = "J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed., Springer, 2006"
-	Armijo1966     = "L. Armijo, Minimization of functions having Lipschitz continuous first partial derivatives, Pacific J. Math. 16(1):1–3, 1966"
-	MoreThuente    = "J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed sufficient decrease, ACM TOMS 20(3):286–307, 1994"
-	Wolfe1969      = "P. Wolfe, Convergence conditions for ascent methods, SIAM Review 11(2):226–235, 1969"
-	DennisSchnabel = "J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained Optimization and Nonlinear Equations, Prentice-Hall, 1983"
-	LiuNocedal     = "D. C. Liu and J. Nocedal, On the limited memory BFGS method for large scale optimization, Math. Programming 45:503–528, 1989"
-	PolakRibiere   = "E. Polak and G. Ribière, Note sur la convergence de méthodes de directions conjuguées, Rev. Française Informat. Recherche Opérationnelle 3(16):35–43, 1969"
+	NocedalWright            = "J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed., Springer, 2006"
+	Armijo1966               = "L. Armijo, Minimization of functions having Lipschitz continuous first partial derivatives, Pacific J. Math. 16(1):1–3, 1966"
+	MoreThuente              = "J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed sufficient decrease, ACM TOMS 20(3):286–307, 1994"
+	Wolfe1969                = "P. Wolfe, Convergence conditions for ascent methods, SIAM Review 11(2):226–235, 1969"
+	DennisSchnabel           = "J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained Optimization and Nonlinear Equations, Prentice-Hall, 1983"
+	LiuNocedal               = "D. C. Liu and J. Nocedal, On the limited memory BFGS method for large scale optimization, Math. Programming 45:503–528, 1989"
+	GillMurraySaundersWright = "P. E. Gill, W. Murray, M. A. Saunders and M. H. Wright, Computing forward-difference intervals for numerical optimization, SIAM J. Sci. Stat. Comput. 4(2):310–321, 1983"
+	PolakRibiere             = "E. Polak and G. Ribière, Note sur la convergence de méthodes de directions conjuguées, Rev. Française Informat. Recherche Opérationnelle 3(16):35–43, 1969"
 )

@@ -50,7 +50,7 @@ func TestRegistryIsConsistent(t *testing.T) {
 		for _, d := range Derivative.Entries {
 			for _, dir := range Direction.Entries {
 				for _, r := range StepRule.Entries {
-					c := &Context{Elem: elem, Dim: 3, Derivative: d, Direction: dir, Rule: r}
+					c := &Context{Elem: elem, Dim: 3, Derivative: d, Direction: dir, Rule: r, Test: Relative}
 					c.Value = c.DefaultValue
 					for _, p := range Params() {
 						if v := c.DefaultValue(p); c.Reads(p) && !p.Contains(v) {
@@ -110,7 +110,7 @@ func TestTrialsDefault(t *testing.T) {
 		{"float64", ArmijoRule, map[*Param]float64{Initial: 1e-20}, 1},
 	}
 	for _, c := range cases {
-		ctx := &Context{Elem: c.elem, Dim: 2, Derivative: Central, Direction: BFGS, Rule: c.rule}
+		ctx := &Context{Elem: c.elem, Dim: 2, Derivative: Central, Direction: BFGS, Rule: c.rule, Test: Relative}
 		ctx.Value = func(p *Param) float64 {
 			if v, ok := c.given[p]; ok {
 				return v

@@ -10,11 +10,12 @@ type Status struct {
 }
 
 // Statuses lists the statuses in the order of the templates' stand-ins.
+// Only one is convergence: the first-order test holds at X.
 var Statuses = []*Status{
 	{"statusGradientSmall", "GradientSmall", "gradient small", true,
-		"the largest gradient component fell to the gradient limit: converged"},
-	{"statusStepTiny", "StepTiny", "step tiny", true,
-		"every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f: converged"},
+		"the gradient test holds at X: its measure, with the differences' error bound when they are used, is at most the gradient limit: converged"},
+	{"statusStalled", "Stalled", "stalled", false,
+		"the step test ended the run, or no step longer than the step limit decreased f, while the gradient test still fails: X is as far as the run could get, not a verified minimizer"},
 	{"statusOutOfIterations", "OutOfIterations", "out of iterations", false,
 		"the iteration limit came first"},
 	{"statusOutOfEvaluations", "OutOfEvaluations", "out of evaluations", false,
@@ -26,7 +27,9 @@ var Statuses = []*Status{
 	{"statusNonFiniteGradient", "NonFiniteGradient", "non-finite gradient", false,
 		"a gradient component became NaN or ±Inf"},
 	{"statusNoDecrease", "NoDecrease", "no decrease", false,
-		"no step longer than the step limit decreased f, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test)"},
+		"the line search found no acceptable step, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test)"},
+	{"statusDiverged", "Diverged", "diverged", false,
+		"a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective"},
 }
 
 // StatusByText finds a status by its String text.

@@ -1,18 +1,18 @@
 package templates
 
 // fixedStep always takes the step stepInitial, whatever it does to f; only
-// a non-finite value at the new point is refused. It is the plain gradient
+// a non-finite value at the new point ends the run as diverged. It is the plain gradient
 // loop with a hand-picked step. On a quadratic with Hessian A, steepest
 // descent with step t maps the error e to (I − tA)e, so it converges only
 // when t < 2/λ_max(A) and otherwise oscillates or diverges (closed form).
-func fixedStep(recv *receiver, x *vec, fx elem, d *vec, slope, first, tiny elem, budget int, xt, gt *vec) lineResult {
+func fixedStep(recv *receiver, x *vec, fx elem, d *vec, slope, first, tiny elem, budget int, xt, gt *vec, diffs *differences) lineResult {
 	if budget < 1 {
 		return lineResult{end: searchOutOfBudget}
 	}
 	moveTo(xt, x, stepInitial, d)
 	ft := recv.objective(xt)
 	if !finite(ft) {
-		return lineResult{calls: 1, end: searchExhausted}
+		return lineResult{calls: 1, end: searchDiverged}
 	}
 	return lineResult{step: stepInitial, value: ft, calls: 1, end: searchAccepted}
 }
@@ -21,7 +21,7 @@ func fixedStep(recv *receiver, x *vec, fx elem, d *vec, slope, first, tiny elem,
 // acceptance test holds, taking t ← next trial after each
 // failure, by fixed shrink or by interpolation (Nocedal & Wright 2006,
 // Algorithm 3.1 and §3.5). A non-finite value fails like any trial.
-func backtrackSearch(recv *receiver, x *vec, fx elem, d *vec, slope, first, tiny elem, budget int, xt, gt *vec) lineResult {
+func backtrackSearch(recv *receiver, x *vec, fx elem, d *vec, slope, first, tiny elem, budget int, xt, gt *vec, diffs *differences) lineResult {
 	t := first
 	var previous, fPrevious elem
 	var trend riseTrend
@@ -40,7 +40,7 @@ func backtrackSearch(recv *receiver, x *vec, fx elem, d *vec, slope, first, tiny
 		trend.add(x, xt, d, t, ft-fx, fx)
 		t, previous, fPrevious = backtrackTrial(fx, slope, t, ft, previous, fPrevious), t, ft
 	}
-	return lineResult{calls: stepTrials, end: searchExhausted}
+	return lineResult{calls: stepTrials, rising: trend.contradicts(), end: searchExhausted}
 }
 
 // acceptable is the backtracking rule's test of a trial t with value ft.

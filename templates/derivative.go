@@ -1,55 +1,254 @@
 package templates
 
+import "math"
+
+// differences is what the difference gradients learn from the objective
+// at the start: for each coordinate i, the interval as a multiple of
+// max(1, |x_i|), and the curvature along e_i it was chosen from (|f''| for
+// forward differences, |f'''| for central ones). The analytic gradient
+// leaves it unused.
+type differences struct {
+	ratio     vec
+	curvature vec
+}
+
 // derivative fills g with the gradient at x, where fx = f(x). It stands in
 // for the source the spec chose; gen keeps only that one under this name.
 // The kernel charges derivativeCost objective calls for each call.
-func derivative(recv *receiver, x *vec, fx elem, g *vec) {
+func derivative(recv *receiver, x *vec, fx elem, g *vec, diffs *differences) {
 	switch derivativeSource {
 	case sourceForward:
-		forwardDifference(recv, x, fx, g)
+		forwardDifference(recv, x, fx, g, diffs)
 	case sourceCentral:
-		centralDifference(recv, x, fx, g)
+		centralDifference(recv, x, fx, g, diffs)
 	default:
-		analyticGradient(recv, x, fx, g)
+		analyticGradient(recv, x, fx, g, diffs)
+	}
+}
+
+// calibrate chooses the difference intervals at x before the first
+// gradient, spending at most budget objective calls; it returns the calls
+// spent and false when the budget ran out first. It stands in for the
+// source the spec chose; gen keeps only that one under this name.
+func calibrate(recv *receiver, x *vec, fx elem, diffs *differences, budget int) (int, bool) {
+	switch derivativeSource {
+	case sourceForward:
+		return calibrateForward(recv, x, fx, diffs, budget)
+	case sourceCentral:
+		return calibrateCentral(recv, x, fx, diffs, budget)
+	default:
+		return calibrateNothing(recv, x, fx, diffs, budget)
+	}
+}
+
+// gradientError fills e with a bound on the error of each component of
+// the gradient at x, where fx = f(x). It stands in for the source the spec
+// chose; gen keeps only that one under this name.
+func gradientError(x *vec, fx elem, e *vec, diffs *differences) {
+	switch derivativeSource {
+	case sourceForward:
+		forwardError(x, fx, e, diffs)
+	case sourceCentral:
+		centralError(x, fx, e, diffs)
+	default:
+		exactGradient(x, fx, e, diffs)
 	}
 }
 
 // analyticGradient calls the user's gradient; it costs no objective calls.
-func analyticGradient(recv *receiver, x *vec, fx elem, g *vec) {
+func analyticGradient(recv *receiver, x *vec, fx elem, g *vec, diffs *differences) {
 	recv.gradient(x, g)
+}
+
+// calibrateNothing: an analytic gradient needs no intervals.
+func calibrateNothing(recv *receiver, x *vec, fx elem, diffs *differences, budget int) (int, bool) {
+	return 0, true
+}
+
+// exactGradient: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func exactGradient(x *vec, fx elem, e *vec, diffs *differences) {
+	for i := range e {
+		e[i] = 0
+	}
+}
+
+// noiseLevel is the absolute error assumed in a computed value fx of the
+// objective, ε_A = 4u·|fx|: a few roundings of the result (common
+// practice; Gill, Murray, Saunders & Wright 1983 leave ε_A to the user).
+func noiseLevel(fx elem) elem {
+	return 4 * unitRoundoff * abs(fx)
+}
+
+// magnitude is |v| for a finite v and 0 otherwise: a probe that fell
+// outside the objective's domain says nothing about its rounding.
+func magnitude(v elem) elem {
+	if !finite(v) {
+		return 0
+	}
+	return abs(v)
+}
+
+// probeStep returns x_i moved by h, and the step actually representable.
+func probeStep(xi, h elem) (elem, elem) {
+	moved := xi + h
+	return moved, moved - xi
+}
+
+
+// calibrateForward chooses each forward-difference interval from the
+// second derivative along e_i, estimated at x with two probes at
+// ±h̄, h̄ = ∛u·s, s = max(1, |x_i|):
+//
+//	f''  ≈ (f(x + h̄eᵢ) − 2f(x) + f(x − h̄eᵢ)) / h̄²,
+//	h_i  = 2·√(ε_A / |f''|)
+//
+// the interval that balances the truncation error h|f''|/2 against the
+// rounding error 2ε_A/h (Gill, Murray, Saunders & Wright 1983, §2; Nocedal
+// & Wright 2006, §8.1). An estimate of f'' below its own rounding noise
+// 4ε_A/h̄² is replaced by that noise, and h_i is kept within [√u·s, h̄],
+// so that it neither vanishes in rounding nor leaves the local model. It
+// costs two objective calls per unknown.
+//
+// References:
+//   - P. E. Gill, W. Murray, M. A. Saunders and M. H. Wright, Computing
+//     forward-difference intervals for numerical optimization, SIAM J.
+//     Sci. Stat. Comput. 4(2):310–321, 1983.
+//   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
+//     Springer, 2006, §8.1.
+func calibrateForward(recv *receiver, x *vec, fx elem, diffs *differences, budget int) (int, bool) {
+	probe := *x
+	calls := 0
+	for i := range probe {
+		xi := probe[i]
+		s := larger(1, abs(xi))
+		bar := centralScale * s
+		if calls+2 > budget {
+			return calls, false
+		}
+		up, hUp := probeStep(xi, bar)
+		probe[i] = up
+		fUp := recv.objective(&probe)
+		down, hDown := probeStep(xi, -bar)
+		probe[i] = down
+		fDown := recv.objective(&probe)
+		probe[i] = xi
+		calls += 2
+		noise := noiseLevel(larger(abs(fx), larger(magnitude(fUp), magnitude(fDown))))
+		h := hUp
+		second := elem(0)
+		if finite(fUp) && finite(fDown) {
+			// f'' from the two one-sided slopes over the representable
+			// steps hUp > 0 > hDown.
+			second = abs((fUp-fx)/hUp-(fx-fDown)/(-hDown)) * 2 / (hUp - hDown)
+		}
+		second = larger(second, 4*noise/(h*h))
+		if second > 0 {
+			h = 2 * squareRoot(noise/second) // GMSW 1983: h = 2√(ε_A/|f''|)
+		}
+		diffs.ratio[i] = clampBetween(h, forwardScale*s, bar) / s
+		diffs.curvature[i] = second
+	}
+	return calls, true
+}
+
+// calibrateCentral chooses each central-difference interval from the
+// third derivative along e_i, estimated at x with four probes at ±h̄ and
+// ±2h̄, h̄ = u^(1/4)·s, s = max(1, |x_i|):
+//
+//	f''' ≈ (f(x + 2h̄eᵢ) − 2f(x + h̄eᵢ) + 2f(x − h̄eᵢ) − f(x − 2h̄eᵢ)) / (2h̄³),
+//	h_i  = ∛(3ε_A / |f'''|)
+//
+// the interval that minimizes the truncation error h²|f'''|/6 plus the
+// rounding error ε_A/h of a central difference (Nocedal & Wright 2006,
+// §8.1, with the third-derivative estimate of the forward interval's
+// procedure of Gill, Murray, Saunders & Wright 1983 carried one order
+// up). An estimate below its rounding noise 3ε_A/h̄³ is replaced by that
+// noise, and h_i is kept within [√u·s, h̄]. It costs four objective calls
+// per unknown.
+func calibrateCentral(recv *receiver, x *vec, fx elem, diffs *differences, budget int) (int, bool) {
+	probe := *x
+	calls := 0
+	quarter := squareRoot(squareRoot(unitRoundoff)) // u^(1/4)
+	for i := range probe {
+		xi := probe[i]
+		s := larger(1, abs(xi))
+		bar := quarter * s
+		if calls+4 > budget {
+			return calls, false
+		}
+		var f [4]elem
+		for k, m := range [4]elem{2, 1, -1, -2} {
+			probe[i], _ = probeStep(xi, m*bar)
+			f[k] = recv.objective(&probe)
+		}
+		probe[i] = xi
+		calls += 4
+		noise := noiseLevel(larger(larger(abs(fx), magnitude(f[0])), larger(larger(magnitude(f[1]), magnitude(f[2])), magnitude(f[3]))))
+		third := elem(0)
+		if finite(f[0]) && finite(f[1]) && finite(f[2]) && finite(f[3]) {
+			third = abs(f[0]-2*f[1]+2*f[2]-f[3]) / (2 * bar * bar * bar)
+		}
+		third = larger(third, 3*noise/(bar*bar*bar))
+		h := bar
+		if third > 0 {
+			h = cubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f'''|/6 + ε_A/h
+		}
+		diffs.ratio[i] = clampBetween(h, forwardScale*s, bar) / s
+		diffs.curvature[i] = third
+	}
+	return calls, true
+}
+
+// cubeRoot returns ∛v for v ≥ 0.
+func cubeRoot(v elem) elem {
+	return elem(math.Cbrt(float64(v)))
 }
 
 // forwardDifference approximates the gradient by forward differences,
 //
-//	g_i ≈ (f(x + h_i e_i) − f(x)) / h_i,  h_i = √u · max(1, |x_i|),
+//	g_i ≈ (f(x + h_i e_i) − f(x)) / h_i,
 //
-// with error O(h) (Nocedal & Wright 2006, eq. 8.1 and the step choice
-// that follows it). It costs dim objective calls.
-func forwardDifference(recv *receiver, x *vec, fx elem, g *vec) {
+// with the intervals calibrateForward chose, h_i = ratio_i·max(1, |x_i|)
+// (Nocedal & Wright 2006, eq. 8.1). It costs dim objective calls.
+func forwardDifference(recv *receiver, x *vec, fx elem, g *vec, diffs *differences) {
 	probe := *x
 	for i := range probe {
 		xi := probe[i]
-		h := forwardScale * larger(1, abs(xi)) // N&W §8.1: h = √u·max(1,|x_i|)
-		probe[i] = xi + h
-		h = probe[i] - xi // the step actually representable in elem
-		g[i] = (recv.objective(&probe) - fx) / h
+		up, h := probeStep(xi, diffs.ratio[i]*larger(1, abs(xi)))
+		probe[i] = up
+		g[i] = (recv.objective(&probe) - fx) / h // N&W eq. 8.1, with the representable h
 		probe[i] = xi
+	}
+}
+
+// forwardError bounds each forward difference's error by twice its
+// truncation h|f''|/2 plus rounding 2ε_A/h, with f'' from the last
+// calibration and ε_A at fx (Nocedal & Wright 2006, §8.1; the factor 2
+// allows for f'' changing within the interval and since the calibration,
+// common practice).
+func forwardError(x *vec, fx elem, e *vec, diffs *differences) {
+	noise := noiseLevel(fx)
+	for i := range e {
+		h := diffs.ratio[i] * larger(1, abs(x[i]))
+		e[i] = 2 * (h*diffs.curvature[i]/2 + 2*noise/h)
 	}
 }
 
 // centralDifference approximates the gradient by central differences,
 //
-//	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),  h_i = ∛u · max(1, |x_i|),
+//	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),
 //
-// with error O(h²) (Nocedal & Wright 2006, eq. 8.7 and §8.1). It costs
-// 2·dim objective calls; fx is not needed.
-func centralDifference(recv *receiver, x *vec, fx elem, g *vec) {
+// with the intervals calibrateCentral chose, h_i = ratio_i·max(1, |x_i|)
+// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls; fx is
+// not needed.
+func centralDifference(recv *receiver, x *vec, fx elem, g *vec, diffs *differences) {
 	probe := *x
 	for i := range probe {
 		xi := probe[i]
-		h := centralScale * larger(1, abs(xi)) // N&W §8.1: h = ∛u·max(1,|x_i|)
-		up := xi + h
-		down := xi - h
+		h := diffs.ratio[i] * larger(1, abs(xi))
+		up, _ := probeStep(xi, h)
+		down, _ := probeStep(xi, -h)
 		probe[i] = up
 		fUp := recv.objective(&probe)
 		probe[i] = down
@@ -57,4 +256,46 @@ func centralDifference(recv *receiver, x *vec, fx elem, g *vec) {
 		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
 		probe[i] = xi
 	}
+}
+
+// centralError bounds each central difference's error by twice its
+// truncation h²|f'''|/6 plus rounding ε_A/h, with f''' from the last
+// calibration and ε_A at fx (Nocedal & Wright 2006, §8.1; the factor 2 as
+// in forwardError).
+func centralError(x *vec, fx elem, e *vec, diffs *differences) {
+	noise := noiseLevel(fx)
+	for i := range e {
+		h := diffs.ratio[i] * larger(1, abs(x[i]))
+		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+	}
+}
+
+// confirmGradient recomputes a difference gradient at x before the run is
+// called converged there: it chooses the intervals again from the
+// curvature at x (calibrate), computes g with them and with twice them,
+// and bounds each component's error by the model (gradientError) plus
+// three times the change the doubling made. That change measures what the
+// model can miss, truncation from curvature that varies and rounding
+// noise above 4u·|f|; as one sample of that noise it is tripled
+// (Richardson's idea of comparing two intervals; the factor is common
+// practice for a posteriori error estimates). It costs a calibration and two
+// gradients, and returns the calls spent and false when budget ran out
+// first.
+func confirmGradient(recv *receiver, x *vec, fx elem, g, e *vec, diffs *differences, budget int) (int, bool) {
+	calls, ok := calibrate(recv, x, fx, diffs, budget)
+	if !ok || calls+2*derivativeCost > budget {
+		return calls, false
+	}
+	wide := *diffs
+	for i := range wide.ratio {
+		wide.ratio[i] *= 2
+	}
+	var doubled vec
+	derivative(recv, x, fx, g, diffs)
+	derivative(recv, x, fx, &doubled, &wide)
+	gradientError(x, fx, e, diffs)
+	for i := range e {
+		e[i] += 3 * abs(g[i]-doubled[i])
+	}
+	return calls + 2*derivativeCost, true
 }

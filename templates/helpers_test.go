@@ -88,3 +88,17 @@ func everyPolicy() []policy {
 func defaultLimits() limits {
 	return limits{Gradient: 1e-8, Step: 1e-14, Iterations: 20000, Evaluations: 200000}
 }
+
+// calibrated returns the difference intervals the kernel would choose at
+// x for the current derivative source (none for an analytic gradient),
+// leaving the receiver's call count as it was.
+func calibrated(recv *receiver, x *vec) *differences {
+	var diffs differences
+	if derivativeSource == sourceAnalytic {
+		return &diffs // nothing to calibrate; the objective is not called
+	}
+	calls := recv.calls
+	calibrate(recv, x, recv.valueFunc(x), &diffs, 1<<30)
+	recv.calls = calls
+	return &diffs
+}

@@ -8,6 +8,7 @@ const (
 	searchExhausted                    // stepTrials trials met none
 	searchOutOfBudget                  // the evaluation cap came first
 	searchTiny                         // every step longer than tiny failed to decrease f
+	searchDiverged                     // a fixed step's value overflowed
 )
 
 // lineResult is what a line search reports to the kernel.
@@ -92,13 +93,13 @@ func faithfulStep(x, xt, d *vec, t elem) bool {
 // analytic gradient, which is then likely wrong. On acceptance xt holds
 // x + t·d (and gt its gradient when the result says so). It stands in for
 // the rule the spec chose; gen keeps only that one under this name.
-func lineSearch(recv *receiver, x *vec, fx elem, d *vec, slope, first, tiny elem, budget int, xt, gt *vec) lineResult {
+func lineSearch(recv *receiver, x *vec, fx elem, d *vec, slope, first, tiny elem, budget int, xt, gt *vec, diffs *differences) lineResult {
 	switch stepRule {
 	case ruleFixed:
-		return fixedStep(recv, x, fx, d, slope, first, tiny, budget, xt, gt)
+		return fixedStep(recv, x, fx, d, slope, first, tiny, budget, xt, gt, diffs)
 	case ruleDecrease, ruleArmijo:
-		return backtrackSearch(recv, x, fx, d, slope, first, tiny, budget, xt, gt)
+		return backtrackSearch(recv, x, fx, d, slope, first, tiny, budget, xt, gt, diffs)
 	default:
-		return wolfeSearch(recv, x, fx, d, slope, first, tiny, budget, xt, gt)
+		return wolfeSearch(recv, x, fx, d, slope, first, tiny, budget, xt, gt, diffs)
 	}
 }

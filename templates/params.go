@@ -27,6 +27,7 @@ var (
 	directionKind    = kindBFGS
 	stepRule         = ruleArmijo
 	backtrackKind    = backtrackShrink
+	gradientTest     = testRelative
 	derivativeCost   = 0 // objective calls per gradient, set with derivativeSource
 )
 
@@ -55,4 +56,9 @@ const (
 const (
 	backtrackShrink = iota
 	backtrackInterpolate
+)
+
+const (
+	testRelative = iota
+	testAbsolute
 )

@@ -50,13 +50,14 @@ type status uint8
 // Stand-ins for the status values; gen emits the real ones.
 const (
 	statusGradientSmall status = iota + 1
-	statusStepTiny
+	statusStalled
 	statusOutOfIterations
 	statusOutOfEvaluations
 	statusNoAcceptableStep
 	statusNonFiniteStart
 	statusNonFiniteGradient
 	statusNoDecrease
+	statusDiverged
 )
 
 // limits stands in for the spec's run-time stop limits.

@@ -29,7 +29,7 @@ type linePoint struct {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func wolfeSearch(recv *receiver, x *vec, fx elem, d *vec, slope, first, tiny elem, budget int, xt, gt *vec) lineResult {
+func wolfeSearch(recv *receiver, x *vec, fx elem, d *vec, slope, first, tiny elem, budget int, xt, gt *vec, diffs *differences) lineResult {
 	low := linePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high linePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient vec                                       // ∇f at low, kept for accepting low from a collapsed bracket
@@ -61,7 +61,7 @@ func wolfeSearch(recv *receiver, x *vec, fx elem, d *vec, slope, first, tiny ele
 			if calls+derivativeCost > budget {
 				return lineResult{calls: calls, end: searchOutOfBudget}
 			}
-			derivative(recv, xt, current.value, gt)
+			derivative(recv, xt, current.value, gt, diffs)
 			calls += derivativeCost
 			current.slope, current.hasSlope = dot(gt, d), true
 			switch {
@@ -86,7 +86,7 @@ func wolfeSearch(recv *receiver, x *vec, fx elem, d *vec, slope, first, tiny ele
 	if low.step > 0 {
 		return acceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
 	}
-	return lineResult{calls: calls, end: searchExhausted}
+	return lineResult{calls: calls, rising: trend.contradicts(), end: searchExhausted}
 }
 
 // acceptLow ends a Wolfe search with its best trial, which met sufficient

@@ -249,7 +249,7 @@ bogus = 1
 		got := problemLines(t, stderr)
 		want := []string{
 			`bad.toml:2:8: name "tune" is not an exported Go identifier`,
-			`bad.toml:7:10: step.shrink must be in (0, 1), got 1.5`,
+			`bad.toml:7:1: step.shrink is not used by rule "wolfe"`,
 			`bad.toml:8:1: unknown key "minimizer.step.bogus"`,
 		}
 		if strings.Join(got, "\n") != strings.Join(want, "\n") {
@@ -525,8 +525,9 @@ func TestGenReportsNameClashOnce(t *testing.T) {
 	}
 }
 
-// init writes a starter spec with every key, which gen accepts as it is,
-// proposes a fitting gradient and instance, and never overwrites.
+// init writes a starter spec with every key, proposes a fitting gradient
+// and instance, and never overwrites. Its start is nan, which gen refuses
+// until the user writes a real one: a start of zeros is often stationary.
 func TestInit(t *testing.T) {
 	quickstartModule(t)
 	writeFile(t, "plant.go", `package quickstart
@@ -555,15 +556,40 @@ func (p *Plant) CostGrad(x, g *[2]float64) {
 	spec := string(data)
 	for _, want := range []string{
 		`name = "MinimizePlantCost"`, `objective = "Plant.Cost"`, `derivative = "analytic"`,
-		`gradient = "Plant.CostGrad"`, `instance = "NewPlant"`, `start = [0.0, 0.0]`,
-		`rule = "armijo"`, `shrink = 0.5`, `evaluations = 10000`, "# memory = 5", "# curvature = 0.9",
+		`gradient = "Plant.CostGrad"`, `instance = "NewPlant"`, `start = [nan, nan]`,
+		`rule = "wolfe"`, "# shrink = 0.5", `evaluations = 10000`, "# memory = 5", "curvature = 0.9", `gradient_test = "relative"`,
 	} {
 		if !strings.Contains(spec, want) {
 			t.Errorf("starter spec lacks %q:\n%s", want, spec)
 		}
 	}
+	code, _, stderr = thalweg("gen", "plant_cost.toml")
+	if code != 2 || !strings.Contains(stderr, "plant_cost.toml:12:1") && !strings.Contains(stderr, "start must be finite: replace it with a typical starting point") {
+		t.Fatalf("gen on the starter spec as written exited %d, want 2 asking for a start:\n%s", code, stderr)
+	}
+	writeFile(t, "plant_cost.toml", strings.Replace(spec, "[nan, nan]", "[3.0, -1.0]", 1))
 	if code, _, stderr := thalweg("gen", "plant_cost.toml"); code != 0 {
-		t.Fatalf("gen on the starter spec exited %d:\n%s", code, stderr)
+		t.Fatalf("gen on the starter spec with a start exited %d:\n%s", code, stderr)
+	}
+	// A receiver with data and no New<Type>: init asks for the instance,
+	// and gen refuses the zero value.
+	writeFile(t, "rig.go", `package quickstart
+
+type Rig struct{ Offset float64 }
+
+func (r Rig) Cost(x float64) float64 { return (x - r.Offset) * (x - r.Offset) }
+`)
+	if code, _, stderr := thalweg("init", "Rig.Cost"); code != 0 {
+		t.Fatalf("init Rig.Cost exited %d:\n%s", code, stderr)
+	}
+	rig, _ := os.ReadFile("rig_cost.toml")
+	if !strings.Contains(string(rig), `instance = ""`) || !strings.Contains(string(rig), "REQUIRED") {
+		t.Errorf("init for a receiver with data does not ask for the instance:\n%s", rig)
+	}
+	writeFile(t, "rig_cost.toml", strings.Replace(strings.Replace(string(rig), "nan", "2.0", 1), `instance = ""`, "", 1))
+	code, _, stderr = thalweg("gen", "rig_cost.toml")
+	if code != 2 || !strings.Contains(stderr, "objective Rig.Cost is a method of Rig, which holds a field: set instance") {
+		t.Errorf("gen without an instance for a receiver with data exited %d:\n%s", code, stderr)
 	}
 	if code, _, stderr := thalweg("init", "GainCost", "--out", "gain.toml"); code != 0 {
 		t.Fatalf("init --out exited %d:\n%s", code, stderr)
@@ -946,7 +972,7 @@ start = 1.0
 		code, _, stderr := thalweg(verb, "bad.toml", "quickstart.toml", "worse.toml")
 		want := []string{
 			"bad.toml:3:13: objective GainCots: no such function in package quickstart; did you mean GainCost?",
-			"bad.toml:11:10: step.shrink must be in (0, 1), got 1.5",
+			`bad.toml:11:1: step.shrink is not used by rule "wolfe"`,
 			"quickstart.go:18:2: objective rawReadings is not a function",
 		}
 		if got := problemLines(t, stderr); code != 2 || strings.Join(got, "\n") != strings.Join(want, "\n") {

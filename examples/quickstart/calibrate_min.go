@@ -2,14 +2,16 @@
 
 package quickstart
 
+import "math"
+
 // CalibrateStatus tells why Calibrate stopped. Only the statuses for which Converged is true say that X is a minimizer to the spec's tolerances; check it before acting on a result.
 type CalibrateStatus uint8
 
 const (
-	// CalibrateGradientSmall: the largest gradient component fell to the gradient limit: converged.
+	// CalibrateGradientSmall: the gradient test holds at X: its measure, with the differences' error bound when they are used, is at most the gradient limit: converged.
 	CalibrateGradientSmall CalibrateStatus = iota + 1
-	// CalibrateStepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f: converged.
-	CalibrateStepTiny
+	// CalibrateStalled: the step test ended the run, or no step longer than the step limit decreased f, while the gradient test still fails: X is as far as the run could get, not a verified minimizer.
+	CalibrateStalled
 	// CalibrateOutOfIterations: the iteration limit came first.
 	CalibrateOutOfIterations
 	// CalibrateOutOfEvaluations: the next objective call would have exceeded the evaluation cap.
@@ -20,8 +22,10 @@ const (
 	CalibrateNonFiniteStart
 	// CalibrateNonFiniteGradient: a gradient component became NaN or ±Inf.
 	CalibrateNonFiniteGradient
-	// CalibrateNoDecrease: no step longer than the step limit decreased f, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test).
+	// CalibrateNoDecrease: the line search found no acceptable step, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test).
 	CalibrateNoDecrease
+	// CalibrateDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
+	CalibrateDiverged
 )
 
 // String describes the status in a few words.
@@ -29,8 +33,8 @@ func (s CalibrateStatus) String() string {
 	switch s {
 	case CalibrateGradientSmall:
 		return "gradient small"
-	case CalibrateStepTiny:
-		return "step tiny"
+	case CalibrateStalled:
+		return "stalled"
 	case CalibrateOutOfIterations:
 		return "out of iterations"
 	case CalibrateOutOfEvaluations:
@@ -43,28 +47,32 @@ func (s CalibrateStatus) String() string {
 		return "non-finite gradient"
 	case CalibrateNoDecrease:
 		return "no decrease"
+	case CalibrateDiverged:
+		return "diverged"
 	default:
 		return "unknown status"
 	}
 }
 
-// Converged reports whether a convergence test, on the gradient or on the step, ended the run; limits, line-search failure and non-finite values are not convergence.
+// Converged reports whether the gradient test holds at X (Gradient ≤ GradientLimit in the result): only then is X a verified stationary point; a stall, the limits, line-search failure and non-finite values are not convergence.
 func (s CalibrateStatus) Converged() bool {
-	return s == CalibrateGradientSmall || s == CalibrateStepTiny
+	return s == CalibrateGradientSmall
 }
 
 // CalibrateResult is where Calibrate stopped and why.
 type CalibrateResult struct {
-	X           [2]float64      // the last accepted point, the best one found
-	F           float64         // the objective at X
-	Iterations  int             // accepted steps
-	Evaluations int             // objective calls, finite differences included
-	Status      CalibrateStatus // why the run stopped; check Status.Converged()
+	X             [2]float64      // where the gradient test held, when converged; else the lowest point seen
+	F             float64         // the objective at X
+	Gradient      float64         // the gradient test's measure at X, the differences' error bound included; NaN when the run ended before the gradient at X was known
+	GradientLimit float64         // the limit Gradient was held to: Limits.Gradient, raised with differences to ten times the measure of their error bound; converged runs have Gradient ≤ GradientLimit
+	Iterations    int             // accepted steps
+	Evaluations   int             // objective calls, finite differences included
+	Status        CalibrateStatus // why the run stopped; check Status.Converged()
 }
 
 // CalibrateLimits are the stop limits of one run. Pass them to CalibrateWithLimits to change them at run time; CalibrateDefaultLimits returns the spec's.
 type CalibrateLimits struct {
-	Gradient    float64 // stop when the largest |∂f/∂xᵢ| is at most this
+	Gradient    float64 // stop, converged, when the gradient test's measure is at most this (with differences, at most ten times the measure of their error bound where that is larger)
 	Step        float64 // stop when every |Δxᵢ| is at most this·(|xᵢ| + 1)
 	Iterations  int     // most accepted steps
 	Evaluations int     // hard cap on objective calls, finite differences included; never exceeded
@@ -85,10 +93,11 @@ func CalibrateDefaultLimits() CalibrateLimits {
 // Direction bfgs: BFGS quasi-Newton with a dense inverse-Hessian approximation (dim² numbers).
 // Step rule armijo: backtrack from `initial` until the Armijo sufficient-decrease test holds.
 // Derivative analytic: the user's own gradient function (spec key `gradient`); costs no objective calls.
+// Gradient test relative: max over i of (|∂f/∂xᵢ| + eᵢ)·max(|xᵢ|, 1)/max(|f(x)|, 1), eᵢ the error bound of differences (0 for an analytic gradient).
 // Constants: initial 1.0, shrink 0.5, c1 0.0001, at most 40 trials per line search.
-// Default stop: largest gradient component ≤ 1e-10, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 200 iterations, 2000 objective calls.
+// Default stop: gradient measure ≤ 1e-10, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 200 iterations, 2000 objective calls.
 //
-// Worst case: 2000 objective calls (the evaluation cap; the iteration limit alone would allow 8001). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
+// Worst case: 2000 objective calls (the evaluation cap; the iteration limit alone would allow 8041). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
 func Calibrate(x0 [2]float64) CalibrateResult {
 	return CalibrateWithLimits(x0, CalibrateDefaultLimits())
@@ -98,11 +107,13 @@ func Calibrate(x0 [2]float64) CalibrateResult {
 func CalibrateWithLimits(x0 [2]float64, limits CalibrateLimits) CalibrateResult {
 	out := calibrateMinimize(x0, limits)
 	return CalibrateResult{
-		Evaluations: out.evaluations,
-		F:           out.f,
-		Iterations:  out.iterations,
-		Status:      out.status,
-		X:           out.x,
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
 	}
 }
 
@@ -119,22 +130,31 @@ const (
 
 // calibrateMinimize runs the descent loop from x0 within lim:
 //
-//  1. stop when the largest gradient component is at most lim.Gradient;
+//  1. stop, converged, when the gradient measure (calibrateGradientMeasure, error
+//     bound of differences included) is at most the limit: lim.Gradient,
+//     or ten times the measure of the differences' error bound when that is
+//     larger, so that the limit can be met (the floor the test can see);
+//     differences confirm it first (calibrateConfirmGradient);
 //  2. stop after lim.Iterations accepted steps;
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
-//  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged,
-//     unless f contradicts an analytic gradient: no decrease);
+//  4. search along d; stop when no trial is acceptable or only steps
+//     shorter than the step limit are left to try: stalled, or no
+//     decrease when f contradicts an analytic gradient (see calibrateRiseTrend);
 //  5. move, refresh the gradient, let the direction learn from the step;
-//  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
+//  6. stop, stalled, when every |Δx_i| is at most lim.Step·(|x_i| + 1) while
+//     the gradient test still fails.
 //
-// Before every objective call it checks that lim.Evaluations leaves room
-// for it, so the cap is never exceeded. A NaN or ±Inf at the start or in a
+// Only step 1 is convergence: the first-order test holds at X. Before
+// every objective call it checks that lim.Evaluations leaves room for it,
+// so the cap is never exceeded. A NaN or ±Inf at the start or in a
 // gradient ends the run with its own status; a non-finite trial value is
-// rejected by the line search like any failed trial.
+// rejected by the line search like any failed trial. X is the best point
+// seen unless the run converged, which it did at X. A fixed step whose
+// value overflows, or that raised f above f(x0) at eight steps in a row,
+// ends the run as diverged (common practice for a divergence test).
 func calibrateMinimize(x0 [2]float64, lim CalibrateLimits) calibrateOutcome {
-	out := calibrateOutcome{x: x0, status: CalibrateOutOfEvaluations}
+	out := calibrateOutcome{x: x0, status: CalibrateOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
@@ -145,11 +165,14 @@ func calibrateMinimize(x0 [2]float64, lim CalibrateLimits) calibrateOutcome {
 		out.status = CalibrateNonFiniteStart
 		return out
 	}
-	if out.evaluations+calibrateDerivativeCost > lim.Evaluations {
+	var diffs calibrateDifferences
+	calls, ok := calibrateCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
+	out.evaluations += calls
+	if !ok || out.evaluations+calibrateDerivativeCost > lim.Evaluations {
 		return out
 	}
-	var g [2]float64
-	calibrateDerivative(&x, fx, &g)
+	var g, e [2]float64
+	calibrateDerivative(&x, fx, &g, &diffs)
 	out.evaluations += calibrateDerivativeCost
 
 	if !calibrateFiniteVec(&g) {
@@ -160,21 +183,47 @@ func calibrateMinimize(x0 [2]float64, lim CalibrateLimits) calibrateOutcome {
 	dir.reset()
 	var d, xt, gt, s, y [2]float64
 	t, slope := float64(calibrateStepInitial), float64(0) // the previous iteration's accepted step and slope
+	best := out                                           // the lowest point seen, for runs that end unconverged
+	start, rises := fx, 0                                 // f(x0), and consecutive accepted steps that raised f above it
+	confirmed := false                                    // whether g and e at x come from calibrateConfirmGradient
 	for {
-		if calibrateMaxAbs(&g) <= lim.Gradient {
+		if !confirmed {
+			calibrateGradientError(&x, fx, &e, &diffs)
+		}
+		measure, floor := calibrateGradientMeasure(&g, &e, &x, fx)
+		out.gradient, out.gradientLimit = measure, calibrateLarger(lim.Gradient, 10*floor)
+		if out.f <= best.f {
+			best = out
+		}
+		if measure <= out.gradientLimit && (calibrateDerivativeCost == 0 || confirmed) {
 			out.status = CalibrateGradientSmall
 			return out
 		}
+		if measure <= out.gradientLimit {
+			// Differences pass the test: confirm it with intervals chosen
+			// here and an error measured rather than modelled.
+			calls, ok := calibrateConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(CalibrateOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !calibrateFiniteVec(&g) {
+				return best.ending(CalibrateNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			confirmed = true
+			continue
+		}
 		if out.iterations > 0 {
 			if calibrateStepWithin(&s, &x, lim.Step) {
-				out.status = CalibrateStepTiny
-				return out
+				return best.ending(CalibrateStalled, out.iterations, out.evaluations)
+			}
+			if rises >= 8 {
+				return best.ending(CalibrateDiverged, out.iterations, out.evaluations)
 			}
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
-			out.status = CalibrateOutOfIterations
-			return out
+			return best.ending(CalibrateOutOfIterations, out.iterations, out.evaluations)
 		}
 		dir.compute(&g, &d)
 		now := calibrateDot(&g, &d)
@@ -188,50 +237,59 @@ func calibrateMinimize(x0 [2]float64, lim CalibrateLimits) calibrateOutcome {
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := calibrateTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := calibrateLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt)
+		found := calibrateLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case calibrateSearchOutOfBudget:
-			return out
-		case calibrateSearchExhausted:
-			out.status = CalibrateNoAcceptableStep
-			return out
-		case calibrateSearchTiny:
-			// Converged to the step limit: no step the step test would
-			// reject decreases f. Not so when an analytic gradient is
-			// contradicted by f rising in proportion to the step (see
-			// calibrateRiseTrend, which never reports that for differences).
-			out.status = CalibrateStepTiny
-			if found.rising {
-				out.status = CalibrateNoDecrease
+			return best.ending(CalibrateOutOfEvaluations, out.iterations, out.evaluations)
+		case calibrateSearchDiverged:
+			return best.ending(CalibrateDiverged, out.iterations, out.evaluations)
+		case calibrateSearchExhausted, calibrateSearchTiny:
+			// No acceptable step. When an analytic gradient predicted a
+			// fall that f contradicted in proportion to the step, the
+			// gradient is probably wrong (see calibrateRiseTrend, which never
+			// reports that for differences); otherwise the search stalled
+			// below the step limit, or ran out of trials.
+			end := CalibrateNoAcceptableStep
+			switch {
+			case found.rising:
+				end = CalibrateNoDecrease
+			case found.end == calibrateSearchTiny:
+				end = CalibrateStalled
 			}
-			return out
+			return best.ending(end, out.iterations, out.evaluations)
 		}
 		if !calibrateFiniteVec(&xt) {
-			out.status = CalibrateNoAcceptableStep // the accepted trial overflowed x
-			return out
+			return best.ending(CalibrateNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
 		}
 		if !found.gradient {
 			if out.evaluations+calibrateDerivativeCost > lim.Evaluations {
-				if found.value < fx { // keep a better point even without its gradient
-					out.x, out.f = xt, found.value
+				if found.value < best.f { // keep a better point even without its gradient
+					best.x, best.f, best.gradient = xt, found.value, math.NaN()
 					out.iterations++
 				}
-				return out
+				return best.ending(CalibrateOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			calibrateDerivative(&xt, found.value, &gt)
+			calibrateDerivative(&xt, found.value, &gt, &diffs)
 			out.evaluations += calibrateDerivativeCost
 		}
 		out.iterations++
 		calibrateDifference(&s, &xt, &x)
 		calibrateDifference(&y, &gt, &g)
-		x, fx, g = xt, found.value, gt
-		out.x, out.f = x, fx
+		if found.value > fx && found.value > start {
+			rises++
+		} else {
+			rises = 0
+		}
+		x, fx, g, confirmed = xt, found.value, gt, false
+		out.x, out.f, out.gradient = x, fx, math.NaN()
 		t, slope = found.step, now
 
 		if !calibrateFiniteVec(&g) {
-			out.status = CalibrateNonFiniteGradient
-			return out
+			if out.f < best.f {
+				best = out
+			}
+			return best.ending(CalibrateNonFiniteGradient, out.iterations, out.evaluations)
 		}
 	}
 }
@@ -239,11 +297,19 @@ func calibrateMinimize(x0 [2]float64, lim CalibrateLimits) calibrateOutcome {
 // calibrateOutcome is the kernel's report; the generated entry point copies it into
 // the spec's result type.
 type calibrateOutcome struct {
-	x           [2]float64
-	f           float64
-	iterations  int
-	evaluations int
-	status      CalibrateStatus
+	x             [2]float64
+	f             float64
+	gradient      float64 // the stop test's measure at x, error bound included; NaN when not known
+	gradientLimit float64 // the limit that measure was held to
+	iterations    int
+	evaluations   int
+	status        CalibrateStatus
+}
+
+// ending is the best point seen, reported with the run's end and counts.
+func (o calibrateOutcome) ending(end CalibrateStatus, iterations, evaluations int) calibrateOutcome {
+	o.status, o.iterations, o.evaluations = end, iterations, evaluations
+	return o
 }
 
 // calibrateFinite reports whether v is neither NaN nor ±Inf, by comparing it with
@@ -268,8 +334,23 @@ func calibrateFiniteVec(x *[2]float64) bool {
 	return true
 }
 
+// calibrateDifferences is what the difference gradients learn from the objective
+// at the start: for each coordinate i, the interval as a multiple of
+// max(1, |x_i|), and the curvature along e_i it was chosen from (|f”| for
+// forward differences, |f”'| for central ones). The analytic gradient
+// leaves it unused.
+type calibrateDifferences struct {
+	ratio     [2]float64
+	curvature [2]float64
+}
+
+// calibrateCalibrate: an analytic gradient needs no intervals.
+func calibrateCalibrate(x *[2]float64, fx float64, diffs *calibrateDifferences, budget int) (int, bool) {
+	return 0, true
+}
+
 // calibrateDerivative calls the user's gradient; it costs no objective calls.
-func calibrateDerivative(x *[2]float64, fx float64, g *[2]float64) {
+func calibrateDerivative(x *[2]float64, fx float64, g *[2]float64, diffs *calibrateDifferences) {
 	CalibrationGradient(x, g)
 }
 
@@ -363,15 +444,43 @@ func calibrateCurvatureSafe(s, y *[2]float64) bool {
 	return sy > 0 && (sy/calibrateDot(s, s))*(sy/calibrateDot(y, y)) > calibrateUnitRoundoff
 }
 
-// calibrateMaxAbs returns the largest |x_i|, the infinity norm.
-func calibrateMaxAbs(x *[2]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := calibrateAbs(x[i]); a > m || a != a {
-			m = a
-		}
+// calibrateGradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func calibrateGradientError(x *[2]float64, fx float64, e *[2]float64, diffs *calibrateDifferences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return m
+}
+
+// calibrateGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func calibrateGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
+	scale := calibrateLarger(calibrateAbs(fx), 1)
+	for i := range g {
+		w := calibrateLarger(calibrateAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = calibrateLarger(measure, (calibrateAbs(g[i])+e[i])*w)
+		floor = calibrateLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// calibrateLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func calibrateLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
 }
 
 // calibrateAbs returns |v|.
@@ -380,6 +489,36 @@ func calibrateAbs(v float64) float64 {
 		return -v
 	}
 	return v
+}
+
+// calibrateConfirmGradient recomputes a difference gradient at x before the run is
+// called converged there: it chooses the intervals again from the
+// curvature at x (calibrate), computes g with them and with twice them,
+// and bounds each component's error by the model (calibrateGradientError) plus
+// three times the change the doubling made. That change measures what the
+// model can miss, truncation from curvature that varies and rounding
+// noise above 4u·|f|; as one sample of that noise it is tripled
+// (Richardson's idea of comparing two intervals; the factor is common
+// practice for a posteriori error estimates). It costs a calibration and two
+// gradients, and returns the calls spent and false when budget ran out
+// first.
+func calibrateConfirmGradient(x *[2]float64, fx float64, g, e *[2]float64, diffs *calibrateDifferences, budget int) (int, bool) {
+	calls, ok := calibrateCalibrate(x, fx, diffs, budget)
+	if !ok || calls+2*calibrateDerivativeCost > budget {
+		return calls, false
+	}
+	wide := *diffs
+	for i := range wide.ratio {
+		wide.ratio[i] *= 2
+	}
+	var doubled [2]float64
+	calibrateDerivative(x, fx, g, diffs)
+	calibrateDerivative(x, fx, &doubled, &wide)
+	calibrateGradientError(x, fx, e, diffs)
+	for i := range e {
+		e[i] += 3 * calibrateAbs(g[i]-doubled[i])
+	}
+	return calls + 2*calibrateDerivativeCost, true
 }
 
 // calibrateStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
@@ -412,7 +551,7 @@ func calibrateTinyStep(x, d *[2]float64, tol float64) float64 {
 // acceptance test holds, taking t ← next trial after each
 // failure, by fixed shrink or by interpolation (Nocedal & Wright 2006,
 // Algorithm 3.1 and §3.5). A non-finite value fails like any trial.
-func calibrateLineSearch(x *[2]float64, fx float64, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64) calibrateLineResult {
+func calibrateLineSearch(x *[2]float64, fx float64, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *calibrateDifferences) calibrateLineResult {
 	t := first
 	var previous, fPrevious float64
 	var trend calibrateRiseTrend
@@ -431,7 +570,7 @@ func calibrateLineSearch(x *[2]float64, fx float64, d *[2]float64, slope, first,
 		trend.add(x, xt, d, t, ft-fx, fx)
 		t, previous, fPrevious = calibrateBacktrackTrial(fx, slope, t, ft, previous, fPrevious), t, ft
 	}
-	return calibrateLineResult{calls: calibrateStepTrials, end: calibrateSearchExhausted}
+	return calibrateLineResult{calls: calibrateStepTrials, rising: trend.contradicts(), end: calibrateSearchExhausted}
 }
 
 // calibrateLineResult is what a line search reports to the kernel.
@@ -525,6 +664,7 @@ const (
 	calibrateSearchExhausted                             // calibrateStepTrials trials met none
 	calibrateSearchOutOfBudget                           // the evaluation cap came first
 	calibrateSearchTiny                                  // every step longer than tiny failed to decrease f
+	calibrateSearchDiverged                              // a fixed step's value overflowed
 )
 
 // calibrateMoveTo sets out = x + t·d.

@@ -2,14 +2,16 @@
 
 package quickstart
 
+import "math"
+
 // TuneGainStatus tells why TuneGain stopped. Only the statuses for which Converged is true say that X is a minimizer to the spec's tolerances; check it before acting on a result.
 type TuneGainStatus uint8
 
 const (
-	// TuneGainGradientSmall: the largest gradient component fell to the gradient limit: converged.
+	// TuneGainGradientSmall: the gradient test holds at X: its measure, with the differences' error bound when they are used, is at most the gradient limit: converged.
 	TuneGainGradientSmall TuneGainStatus = iota + 1
-	// TuneGainStepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f: converged.
-	TuneGainStepTiny
+	// TuneGainStalled: the step test ended the run, or no step longer than the step limit decreased f, while the gradient test still fails: X is as far as the run could get, not a verified minimizer.
+	TuneGainStalled
 	// TuneGainOutOfIterations: the iteration limit came first.
 	TuneGainOutOfIterations
 	// TuneGainOutOfEvaluations: the next objective call would have exceeded the evaluation cap.
@@ -20,8 +22,10 @@ const (
 	TuneGainNonFiniteStart
 	// TuneGainNonFiniteGradient: a gradient component became NaN or ±Inf.
 	TuneGainNonFiniteGradient
-	// TuneGainNoDecrease: no step longer than the step limit decreased f, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test).
+	// TuneGainNoDecrease: the line search found no acceptable step, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test).
 	TuneGainNoDecrease
+	// TuneGainDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
+	TuneGainDiverged
 )
 
 // String describes the status in a few words.
@@ -29,8 +33,8 @@ func (s TuneGainStatus) String() string {
 	switch s {
 	case TuneGainGradientSmall:
 		return "gradient small"
-	case TuneGainStepTiny:
-		return "step tiny"
+	case TuneGainStalled:
+		return "stalled"
 	case TuneGainOutOfIterations:
 		return "out of iterations"
 	case TuneGainOutOfEvaluations:
@@ -43,28 +47,32 @@ func (s TuneGainStatus) String() string {
 		return "non-finite gradient"
 	case TuneGainNoDecrease:
 		return "no decrease"
+	case TuneGainDiverged:
+		return "diverged"
 	default:
 		return "unknown status"
 	}
 }
 
-// Converged reports whether a convergence test, on the gradient or on the step, ended the run; limits, line-search failure and non-finite values are not convergence.
+// Converged reports whether the gradient test holds at X (Gradient ≤ GradientLimit in the result): only then is X a verified stationary point; a stall, the limits, line-search failure and non-finite values are not convergence.
 func (s TuneGainStatus) Converged() bool {
-	return s == TuneGainGradientSmall || s == TuneGainStepTiny
+	return s == TuneGainGradientSmall
 }
 
 // TuneGainResult is where TuneGain stopped and why.
 type TuneGainResult struct {
-	X           float64        // the last accepted point, the best one found
-	F           float64        // the objective at X
-	Iterations  int            // accepted steps
-	Evaluations int            // objective calls, finite differences included
-	Status      TuneGainStatus // why the run stopped; check Status.Converged()
+	X             float64        // where the gradient test held, when converged; else the lowest point seen
+	F             float64        // the objective at X
+	Gradient      float64        // the gradient test's measure at X, the differences' error bound included; NaN when the run ended before the gradient at X was known
+	GradientLimit float64        // the limit Gradient was held to: Limits.Gradient, raised with differences to ten times the measure of their error bound; converged runs have Gradient ≤ GradientLimit
+	Iterations    int            // accepted steps
+	Evaluations   int            // objective calls, finite differences included
+	Status        TuneGainStatus // why the run stopped; check Status.Converged()
 }
 
 // TuneGainLimits are the stop limits of one run. Pass them to TuneGainWithLimits to change them at run time; TuneGainDefaultLimits returns the spec's.
 type TuneGainLimits struct {
-	Gradient    float64 // stop when the largest |∂f/∂xᵢ| is at most this
+	Gradient    float64 // stop, converged, when the gradient test's measure is at most this (with differences, at most ten times the measure of their error bound where that is larger)
 	Step        float64 // stop when every |Δxᵢ| is at most this·(|xᵢ| + 1)
 	Iterations  int     // most accepted steps
 	Evaluations int     // hard cap on objective calls, finite differences included; never exceeded
@@ -84,11 +92,12 @@ func TuneGainDefaultLimits() TuneGainLimits {
 //
 // Direction bfgs: BFGS quasi-Newton with a dense inverse-Hessian approximation (dim² numbers).
 // Step rule armijo: backtrack from `initial` until the Armijo sufficient-decrease test holds.
-// Derivative central: central differences: 2·dim objective calls per gradient, error O(u^(2/3)).
+// Derivative central: central differences: 2·dim objective calls per gradient, intervals from the objective's curvature, error O(u^(2/3)).
+// Gradient test relative: max over i of (|∂f/∂xᵢ| + eᵢ)·max(|xᵢ|, 1)/max(|f(x)|, 1), eᵢ the error bound of differences (0 for an analytic gradient).
 // Constants: initial 1.0, shrink 0.5, c1 0.0001, at most 48 trials per line search.
-// Default stop: largest gradient component ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 500 iterations, 10000 objective calls.
+// Default stop: gradient measure ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 500 iterations, 10000 objective calls.
 //
-// Worst case: 10000 objective calls, 2 of them per gradient (the evaluation cap; the iteration limit alone would allow 25003). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
+// Worst case: 10000 objective calls, 2 of them per gradient and 4 per choice of the difference intervals (at the start and before each convergence is confirmed) (the evaluation cap; the iteration limit alone would allow 29065). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
 func TuneGain(x0 float64) TuneGainResult {
 	return TuneGainWithLimits(x0, TuneGainDefaultLimits())
@@ -98,11 +107,13 @@ func TuneGain(x0 float64) TuneGainResult {
 func TuneGainWithLimits(x0 float64, limits TuneGainLimits) TuneGainResult {
 	out := tuneGainMinimize([1]float64{x0}, limits)
 	return TuneGainResult{
-		Evaluations: out.evaluations,
-		F:           out.f,
-		Iterations:  out.iterations,
-		Status:      out.status,
-		X:           out.x[0],
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x[0],
 	}
 }
 
@@ -115,27 +126,36 @@ const (
 	tuneGainDerivativeCost = 2                      // objective calls per gradient
 	tuneGainUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
 	tuneGainLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
-	tuneGainCentralScale   = 4.806217383937352e-06  // ∛u, central-difference step scale (Nocedal & Wright 2006, §8.1)
+	tuneGainForwardScale   = 1.0536712127723509e-08 // √u, forward-difference step scale (Nocedal & Wright 2006, §8.1)
 )
 
 // tuneGainMinimize runs the descent loop from x0 within lim:
 //
-//  1. stop when the largest gradient component is at most lim.Gradient;
+//  1. stop, converged, when the gradient measure (tuneGainGradientMeasure, error
+//     bound of differences included) is at most the limit: lim.Gradient,
+//     or ten times the measure of the differences' error bound when that is
+//     larger, so that the limit can be met (the floor the test can see);
+//     differences confirm it first (tuneGainConfirmGradient);
 //  2. stop after lim.Iterations accepted steps;
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
-//  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged,
-//     unless f contradicts an analytic gradient: no decrease);
+//  4. search along d; stop when no trial is acceptable or only steps
+//     shorter than the step limit are left to try: stalled, or no
+//     decrease when f contradicts an analytic gradient (see tuneGainRiseTrend);
 //  5. move, refresh the gradient, let the direction learn from the step;
-//  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
+//  6. stop, stalled, when every |Δx_i| is at most lim.Step·(|x_i| + 1) while
+//     the gradient test still fails.
 //
-// Before every objective call it checks that lim.Evaluations leaves room
-// for it, so the cap is never exceeded. A NaN or ±Inf at the start or in a
+// Only step 1 is convergence: the first-order test holds at X. Before
+// every objective call it checks that lim.Evaluations leaves room for it,
+// so the cap is never exceeded. A NaN or ±Inf at the start or in a
 // gradient ends the run with its own status; a non-finite trial value is
-// rejected by the line search like any failed trial.
+// rejected by the line search like any failed trial. X is the best point
+// seen unless the run converged, which it did at X. A fixed step whose
+// value overflows, or that raised f above f(x0) at eight steps in a row,
+// ends the run as diverged (common practice for a divergence test).
 func tuneGainMinimize(x0 [1]float64, lim TuneGainLimits) tuneGainOutcome {
-	out := tuneGainOutcome{x: x0, status: TuneGainOutOfEvaluations}
+	out := tuneGainOutcome{x: x0, status: TuneGainOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
@@ -146,11 +166,14 @@ func tuneGainMinimize(x0 [1]float64, lim TuneGainLimits) tuneGainOutcome {
 		out.status = TuneGainNonFiniteStart
 		return out
 	}
-	if out.evaluations+tuneGainDerivativeCost > lim.Evaluations {
+	var diffs tuneGainDifferences
+	calls, ok := tuneGainCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
+	out.evaluations += calls
+	if !ok || out.evaluations+tuneGainDerivativeCost > lim.Evaluations {
 		return out
 	}
-	var g [1]float64
-	tuneGainDerivative(&x, fx, &g)
+	var g, e [1]float64
+	tuneGainDerivative(&x, fx, &g, &diffs)
 	out.evaluations += tuneGainDerivativeCost
 
 	if !tuneGainFiniteVec(&g) {
@@ -161,21 +184,47 @@ func tuneGainMinimize(x0 [1]float64, lim TuneGainLimits) tuneGainOutcome {
 	dir.reset()
 	var d, xt, gt, s, y [1]float64
 	t, slope := float64(tuneGainStepInitial), float64(0) // the previous iteration's accepted step and slope
+	best := out                                          // the lowest point seen, for runs that end unconverged
+	start, rises := fx, 0                                // f(x0), and consecutive accepted steps that raised f above it
+	confirmed := false                                   // whether g and e at x come from tuneGainConfirmGradient
 	for {
-		if tuneGainMaxAbs(&g) <= lim.Gradient {
+		if !confirmed {
+			tuneGainGradientError(&x, fx, &e, &diffs)
+		}
+		measure, floor := tuneGainGradientMeasure(&g, &e, &x, fx)
+		out.gradient, out.gradientLimit = measure, tuneGainLarger(lim.Gradient, 10*floor)
+		if out.f <= best.f {
+			best = out
+		}
+		if measure <= out.gradientLimit && (tuneGainDerivativeCost == 0 || confirmed) {
 			out.status = TuneGainGradientSmall
 			return out
 		}
+		if measure <= out.gradientLimit {
+			// Differences pass the test: confirm it with intervals chosen
+			// here and an error measured rather than modelled.
+			calls, ok := tuneGainConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(TuneGainOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !tuneGainFiniteVec(&g) {
+				return best.ending(TuneGainNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			confirmed = true
+			continue
+		}
 		if out.iterations > 0 {
 			if tuneGainStepWithin(&s, &x, lim.Step) {
-				out.status = TuneGainStepTiny
-				return out
+				return best.ending(TuneGainStalled, out.iterations, out.evaluations)
+			}
+			if rises >= 8 {
+				return best.ending(TuneGainDiverged, out.iterations, out.evaluations)
 			}
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
-			out.status = TuneGainOutOfIterations
-			return out
+			return best.ending(TuneGainOutOfIterations, out.iterations, out.evaluations)
 		}
 		dir.compute(&g, &d)
 		now := tuneGainDot(&g, &d)
@@ -189,50 +238,59 @@ func tuneGainMinimize(x0 [1]float64, lim TuneGainLimits) tuneGainOutcome {
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := tuneGainTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := tuneGainLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt)
+		found := tuneGainLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case tuneGainSearchOutOfBudget:
-			return out
-		case tuneGainSearchExhausted:
-			out.status = TuneGainNoAcceptableStep
-			return out
-		case tuneGainSearchTiny:
-			// Converged to the step limit: no step the step test would
-			// reject decreases f. Not so when an analytic gradient is
-			// contradicted by f rising in proportion to the step (see
-			// tuneGainRiseTrend, which never reports that for differences).
-			out.status = TuneGainStepTiny
-			if found.rising {
-				out.status = TuneGainNoDecrease
+			return best.ending(TuneGainOutOfEvaluations, out.iterations, out.evaluations)
+		case tuneGainSearchDiverged:
+			return best.ending(TuneGainDiverged, out.iterations, out.evaluations)
+		case tuneGainSearchExhausted, tuneGainSearchTiny:
+			// No acceptable step. When an analytic gradient predicted a
+			// fall that f contradicted in proportion to the step, the
+			// gradient is probably wrong (see tuneGainRiseTrend, which never
+			// reports that for differences); otherwise the search stalled
+			// below the step limit, or ran out of trials.
+			end := TuneGainNoAcceptableStep
+			switch {
+			case found.rising:
+				end = TuneGainNoDecrease
+			case found.end == tuneGainSearchTiny:
+				end = TuneGainStalled
 			}
-			return out
+			return best.ending(end, out.iterations, out.evaluations)
 		}
 		if !tuneGainFiniteVec(&xt) {
-			out.status = TuneGainNoAcceptableStep // the accepted trial overflowed x
-			return out
+			return best.ending(TuneGainNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
 		}
 		if !found.gradient {
 			if out.evaluations+tuneGainDerivativeCost > lim.Evaluations {
-				if found.value < fx { // keep a better point even without its gradient
-					out.x, out.f = xt, found.value
+				if found.value < best.f { // keep a better point even without its gradient
+					best.x, best.f, best.gradient = xt, found.value, math.NaN()
 					out.iterations++
 				}
-				return out
+				return best.ending(TuneGainOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			tuneGainDerivative(&xt, found.value, &gt)
+			tuneGainDerivative(&xt, found.value, &gt, &diffs)
 			out.evaluations += tuneGainDerivativeCost
 		}
 		out.iterations++
 		tuneGainDifference(&s, &xt, &x)
 		tuneGainDifference(&y, &gt, &g)
-		x, fx, g = xt, found.value, gt
-		out.x, out.f = x, fx
+		if found.value > fx && found.value > start {
+			rises++
+		} else {
+			rises = 0
+		}
+		x, fx, g, confirmed = xt, found.value, gt, false
+		out.x, out.f, out.gradient = x, fx, math.NaN()
 		t, slope = found.step, now
 
 		if !tuneGainFiniteVec(&g) {
-			out.status = TuneGainNonFiniteGradient
-			return out
+			if out.f < best.f {
+				best = out
+			}
+			return best.ending(TuneGainNonFiniteGradient, out.iterations, out.evaluations)
 		}
 	}
 }
@@ -240,11 +298,19 @@ func tuneGainMinimize(x0 [1]float64, lim TuneGainLimits) tuneGainOutcome {
 // tuneGainOutcome is the kernel's report; the generated entry point copies it into
 // the spec's result type.
 type tuneGainOutcome struct {
-	x           [1]float64
-	f           float64
-	iterations  int
-	evaluations int
-	status      TuneGainStatus
+	x             [1]float64
+	f             float64
+	gradient      float64 // the stop test's measure at x, error bound included; NaN when not known
+	gradientLimit float64 // the limit that measure was held to
+	iterations    int
+	evaluations   int
+	status        TuneGainStatus
+}
+
+// ending is the best point seen, reported with the run's end and counts.
+func (o tuneGainOutcome) ending(end TuneGainStatus, iterations, evaluations int) tuneGainOutcome {
+	o.status, o.iterations, o.evaluations = end, iterations, evaluations
+	return o
 }
 
 // tuneGainFinite reports whether v is neither NaN nor ±Inf, by comparing it with
@@ -269,26 +335,67 @@ func tuneGainFiniteVec(x *[1]float64) bool {
 	return true
 }
 
-// tuneGainDerivative approximates the gradient by central differences,
+// tuneGainDifferences is what the difference gradients learn from the objective
+// at the start: for each coordinate i, the interval as a multiple of
+// max(1, |x_i|), and the curvature along e_i it was chosen from (|f”| for
+// forward differences, |f”'| for central ones). The analytic gradient
+// leaves it unused.
+type tuneGainDifferences struct {
+	ratio     [1]float64
+	curvature [1]float64
+}
+
+// tuneGainCalibrate chooses each central-difference interval from the
+// third derivative along e_i, estimated at x with four probes at ±h̄ and
+// ±2h̄, h̄ = u^(1/4)·s, s = max(1, |x_i|):
 //
-//	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),  h_i = ∛u · max(1, |x_i|),
+//	f''' ≈ (f(x + 2h̄eᵢ) − 2f(x + h̄eᵢ) + 2f(x − h̄eᵢ) − f(x − 2h̄eᵢ)) / (2h̄³),
+//	h_i  = ∛(3ε_A / |f'''|)
 //
-// with error O(h²) (Nocedal & Wright 2006, eq. 8.7 and §8.1). It costs
-// 2·dim objective calls; fx is not needed.
-func tuneGainDerivative(x *[1]float64, fx float64, g *[1]float64) {
+// the interval that minimizes the truncation error h²|f”'|/6 plus the
+// rounding error ε_A/h of a central difference (Nocedal & Wright 2006,
+// §8.1, with the third-derivative estimate of the forward interval's
+// procedure of Gill, Murray, Saunders & Wright 1983 carried one order
+// up). An estimate below its rounding noise 3ε_A/h̄³ is replaced by that
+// noise, and h_i is kept within [√u·s, h̄]. It costs four objective calls
+// per unknown.
+func tuneGainCalibrate(x *[1]float64, fx float64, diffs *tuneGainDifferences, budget int) (int, bool) {
 	probe := *x
+	calls := 0
+	quarter := tuneGainSquareRoot(tuneGainSquareRoot(tuneGainUnitRoundoff)) // u^(1/4)
 	for i := range probe {
 		xi := probe[i]
-		h := tuneGainCentralScale * tuneGainLarger(1, tuneGainAbs(xi)) // N&W §8.1: h = ∛u·max(1,|x_i|)
-		up := xi + h
-		down := xi - h
-		probe[i] = up
-		fUp := GainCost(probe[0])
-		probe[i] = down
-		fDown := GainCost(probe[0])
-		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+		s := tuneGainLarger(1, tuneGainAbs(xi))
+		bar := quarter * s
+		if calls+4 > budget {
+			return calls, false
+		}
+		var f [4]float64
+		for k, m := range [4]float64{2, 1, -1, -2} {
+			probe[i], _ = tuneGainProbeStep(xi, m*bar)
+			f[k] = GainCost(probe[0])
+		}
 		probe[i] = xi
+		calls += 4
+		noise := tuneGainNoiseLevel(tuneGainLarger(tuneGainLarger(tuneGainAbs(fx), tuneGainMagnitude(f[0])), tuneGainLarger(tuneGainLarger(tuneGainMagnitude(f[1]), tuneGainMagnitude(f[2])), tuneGainMagnitude(f[3]))))
+		third := float64(0)
+		if tuneGainFinite(f[0]) && tuneGainFinite(f[1]) && tuneGainFinite(f[2]) && tuneGainFinite(f[3]) {
+			third = tuneGainAbs(f[0]-2*f[1]+2*f[2]-f[3]) / (2 * bar * bar * bar)
+		}
+		third = tuneGainLarger(third, 3*noise/(bar*bar*bar))
+		h := bar
+		if third > 0 {
+			h = tuneGainCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f'''|/6 + ε_A/h
+		}
+		diffs.ratio[i] = tuneGainClampBetween(h, tuneGainForwardScale*s, bar) / s
+		diffs.curvature[i] = third
 	}
+	return calls, true
+}
+
+// tuneGainSquareRoot returns √v.
+func tuneGainSquareRoot(v float64) float64 {
+	return math.Sqrt(v)
 }
 
 // tuneGainLarger returns the larger of a and b, or a NaN among them. The builtin
@@ -307,6 +414,71 @@ func tuneGainAbs(v float64) float64 {
 		return -v
 	}
 	return v
+}
+
+// tuneGainProbeStep returns x_i moved by h, and the step actually representable.
+func tuneGainProbeStep(xi, h float64) (float64, float64) {
+	moved := xi + h
+	return moved, moved - xi
+}
+
+// tuneGainNoiseLevel is the absolute error assumed in a computed value fx of the
+// objective, ε_A = 4u·|fx|: a few roundings of the result (common
+// practice; Gill, Murray, Saunders & Wright 1983 leave ε_A to the user).
+func tuneGainNoiseLevel(fx float64) float64 {
+	return 4 * tuneGainUnitRoundoff * tuneGainAbs(fx)
+}
+
+// tuneGainMagnitude is |v| for a finite v and 0 otherwise: a probe that fell
+// outside the objective's domain says nothing about its rounding.
+func tuneGainMagnitude(v float64) float64 {
+	if !tuneGainFinite(v) {
+		return 0
+	}
+	return tuneGainAbs(v)
+}
+
+// tuneGainCubeRoot returns ∛v for v ≥ 0.
+func tuneGainCubeRoot(v float64) float64 {
+	return math.Cbrt(v)
+}
+
+// tuneGainClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func tuneGainClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// tuneGainDerivative approximates the gradient by central differences,
+//
+//	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),
+//
+// with the intervals tuneGainCalibrate chose, h_i = ratio_i·max(1, |x_i|)
+// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls; fx is
+// not needed.
+func tuneGainDerivative(x *[1]float64, fx float64, g *[1]float64, diffs *tuneGainDifferences) {
+	probe := *x
+	for i := range probe {
+		xi := probe[i]
+		h := diffs.ratio[i] * tuneGainLarger(1, tuneGainAbs(xi))
+		up, _ := tuneGainProbeStep(xi, h)
+		down, _ := tuneGainProbeStep(xi, -h)
+		probe[i] = up
+		fUp := GainCost(probe[0])
+		probe[i] = down
+		fDown := GainCost(probe[0])
+		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+		probe[i] = xi
+	}
 }
 
 // tuneGainDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
@@ -399,15 +571,67 @@ func tuneGainCurvatureSafe(s, y *[1]float64) bool {
 	return sy > 0 && (sy/tuneGainDot(s, s))*(sy/tuneGainDot(y, y)) > tuneGainUnitRoundoff
 }
 
-// tuneGainMaxAbs returns the largest |x_i|, the infinity norm.
-func tuneGainMaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := tuneGainAbs(x[i]); a > m || a != a {
-			m = a
-		}
+// tuneGainGradientError bounds each central difference's error by twice its
+// truncation h²|f”'|/6 plus rounding ε_A/h, with f”' from the last
+// calibration and ε_A at fx (Nocedal & Wright 2006, §8.1; the factor 2 as
+// in forwardError).
+func tuneGainGradientError(x *[1]float64, fx float64, e *[1]float64, diffs *tuneGainDifferences) {
+	noise := tuneGainNoiseLevel(fx)
+	for i := range e {
+		h := diffs.ratio[i] * tuneGainLarger(1, tuneGainAbs(x[i]))
+		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
 	}
-	return m
+}
+
+// tuneGainGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func tuneGainGradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
+	scale := tuneGainLarger(tuneGainAbs(fx), 1)
+	for i := range g {
+		w := tuneGainLarger(tuneGainAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = tuneGainLarger(measure, (tuneGainAbs(g[i])+e[i])*w)
+		floor = tuneGainLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// tuneGainConfirmGradient recomputes a difference gradient at x before the run is
+// called converged there: it chooses the intervals again from the
+// curvature at x (calibrate), computes g with them and with twice them,
+// and bounds each component's error by the model (tuneGainGradientError) plus
+// three times the change the doubling made. That change measures what the
+// model can miss, truncation from curvature that varies and rounding
+// noise above 4u·|f|; as one sample of that noise it is tripled
+// (Richardson's idea of comparing two intervals; the factor is common
+// practice for a posteriori error estimates). It costs a calibration and two
+// gradients, and returns the calls spent and false when budget ran out
+// first.
+func tuneGainConfirmGradient(x *[1]float64, fx float64, g, e *[1]float64, diffs *tuneGainDifferences, budget int) (int, bool) {
+	calls, ok := tuneGainCalibrate(x, fx, diffs, budget)
+	if !ok || calls+2*tuneGainDerivativeCost > budget {
+		return calls, false
+	}
+	wide := *diffs
+	for i := range wide.ratio {
+		wide.ratio[i] *= 2
+	}
+	var doubled [1]float64
+	tuneGainDerivative(x, fx, g, diffs)
+	tuneGainDerivative(x, fx, &doubled, &wide)
+	tuneGainGradientError(x, fx, e, diffs)
+	for i := range e {
+		e[i] += 3 * tuneGainAbs(g[i]-doubled[i])
+	}
+	return calls + 2*tuneGainDerivativeCost, true
 }
 
 // tuneGainStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
@@ -440,7 +664,7 @@ func tuneGainTinyStep(x, d *[1]float64, tol float64) float64 {
 // acceptance test holds, taking t ← next trial after each
 // failure, by fixed shrink or by interpolation (Nocedal & Wright 2006,
 // Algorithm 3.1 and §3.5). A non-finite value fails like any trial.
-func tuneGainLineSearch(x *[1]float64, fx float64, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64) tuneGainLineResult {
+func tuneGainLineSearch(x *[1]float64, fx float64, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *tuneGainDifferences) tuneGainLineResult {
 	t := first
 	var previous, fPrevious float64
 	var trend tuneGainRiseTrend
@@ -459,7 +683,7 @@ func tuneGainLineSearch(x *[1]float64, fx float64, d *[1]float64, slope, first, 
 		trend.add(x, xt, d, t, ft-fx, fx)
 		t, previous, fPrevious = tuneGainBacktrackTrial(fx, slope, t, ft, previous, fPrevious), t, ft
 	}
-	return tuneGainLineResult{calls: tuneGainStepTrials, end: tuneGainSearchExhausted}
+	return tuneGainLineResult{calls: tuneGainStepTrials, rising: trend.contradicts(), end: tuneGainSearchExhausted}
 }
 
 // tuneGainLineResult is what a line search reports to the kernel.
@@ -553,6 +777,7 @@ const (
 	tuneGainSearchExhausted                            // tuneGainStepTrials trials met none
 	tuneGainSearchOutOfBudget                          // the evaluation cap came first
 	tuneGainSearchTiny                                 // every step longer than tiny failed to decrease f
+	tuneGainSearchDiverged                             // a fixed step's value overflowed
 )
 
 // tuneGainMoveTo sets out = x + t·d.

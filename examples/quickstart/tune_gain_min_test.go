@@ -16,7 +16,7 @@ func tuneGainTestStart() float64 {
 func TestTuneGainConverges(t *testing.T) {
 	r := TuneGain(tuneGainTestStart())
 	if !r.Status.Converged() {
-		t.Fatalf("status %v after %d iterations and %d evaluations, f = %g, x = %v", r.Status, r.Iterations, r.Evaluations, r.F, r.X)
+		t.Fatalf("status %v after %d iterations and %d evaluations, f = %g, x = %v, gradient measure %g (limit %g)", r.Status, r.Iterations, r.Evaluations, r.F, r.X, r.Gradient, r.GradientLimit)
 	}
 	want := 2.0
 	if !(math.Abs(float64(r.X-want)) <= 1e-06) {

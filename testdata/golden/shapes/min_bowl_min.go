@@ -8,10 +8,10 @@ import "math"
 type MinBowlStatus uint8
 
 const (
-	// MinBowlGradientSmall: the largest gradient component fell to the gradient limit: converged.
+	// MinBowlGradientSmall: the gradient test holds at X: its measure, with the differences' error bound when they are used, is at most the gradient limit: converged.
 	MinBowlGradientSmall MinBowlStatus = iota + 1
-	// MinBowlStepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f: converged.
-	MinBowlStepTiny
+	// MinBowlStalled: the step test ended the run, or no step longer than the step limit decreased f, while the gradient test still fails: X is as far as the run could get, not a verified minimizer.
+	MinBowlStalled
 	// MinBowlOutOfIterations: the iteration limit came first.
 	MinBowlOutOfIterations
 	// MinBowlOutOfEvaluations: the next objective call would have exceeded the evaluation cap.
@@ -22,8 +22,10 @@ const (
 	MinBowlNonFiniteStart
 	// MinBowlNonFiniteGradient: a gradient component became NaN or ±Inf.
 	MinBowlNonFiniteGradient
-	// MinBowlNoDecrease: no step longer than the step limit decreased f, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test).
+	// MinBowlNoDecrease: the line search found no acceptable step, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test).
 	MinBowlNoDecrease
+	// MinBowlDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
+	MinBowlDiverged
 )
 
 // String describes the status in a few words.
@@ -31,8 +33,8 @@ func (s MinBowlStatus) String() string {
 	switch s {
 	case MinBowlGradientSmall:
 		return "gradient small"
-	case MinBowlStepTiny:
-		return "step tiny"
+	case MinBowlStalled:
+		return "stalled"
 	case MinBowlOutOfIterations:
 		return "out of iterations"
 	case MinBowlOutOfEvaluations:
@@ -45,28 +47,32 @@ func (s MinBowlStatus) String() string {
 		return "non-finite gradient"
 	case MinBowlNoDecrease:
 		return "no decrease"
+	case MinBowlDiverged:
+		return "diverged"
 	default:
 		return "unknown status"
 	}
 }
 
-// Converged reports whether a convergence test, on the gradient or on the step, ended the run; limits, line-search failure and non-finite values are not convergence.
+// Converged reports whether the gradient test holds at X (Gradient ≤ GradientLimit in the result): only then is X a verified stationary point; a stall, the limits, line-search failure and non-finite values are not convergence.
 func (s MinBowlStatus) Converged() bool {
-	return s == MinBowlGradientSmall || s == MinBowlStepTiny
+	return s == MinBowlGradientSmall
 }
 
 // MinBowlResult is where MinBowl stopped and why.
 type MinBowlResult struct {
-	X           [3]float32    // the last accepted point, the best one found
-	F           float32       // the objective at X
-	Iterations  int           // accepted steps
-	Evaluations int           // objective calls, finite differences included
-	Status      MinBowlStatus // why the run stopped; check Status.Converged()
+	X             [3]float32    // where the gradient test held, when converged; else the lowest point seen
+	F             float32       // the objective at X
+	Gradient      float32       // the gradient test's measure at X, the differences' error bound included; NaN when the run ended before the gradient at X was known
+	GradientLimit float32       // the limit Gradient was held to: Limits.Gradient, raised with differences to ten times the measure of their error bound; converged runs have Gradient ≤ GradientLimit
+	Iterations    int           // accepted steps
+	Evaluations   int           // objective calls, finite differences included
+	Status        MinBowlStatus // why the run stopped; check Status.Converged()
 }
 
 // MinBowlLimits are the stop limits of one run. Pass them to MinBowlWithLimits to change them at run time; MinBowlDefaultLimits returns the spec's.
 type MinBowlLimits struct {
-	Gradient    float32 // stop when the largest |∂f/∂xᵢ| is at most this
+	Gradient    float32 // stop, converged, when the gradient test's measure is at most this (with differences, at most ten times the measure of their error bound where that is larger)
 	Step        float32 // stop when every |Δxᵢ| is at most this·(|xᵢ| + 1)
 	Iterations  int     // most accepted steps
 	Evaluations int     // hard cap on objective calls, finite differences included; never exceeded
@@ -76,7 +82,7 @@ type MinBowlLimits struct {
 func MinBowlDefaultLimits() MinBowlLimits {
 	return MinBowlLimits{
 		Evaluations: 10000,
-		Gradient:    0.01,
+		Gradient:    0.0001,
 		Iterations:  500,
 		Step:        1e-06,
 	}
@@ -86,11 +92,12 @@ func MinBowlDefaultLimits() MinBowlLimits {
 //
 // Direction cg: nonlinear conjugate gradients, Polak–Ribière clipped at zero (PR+), restarted every dim steps.
 // Step rule strong-wolfe: bracket and zoom until sufficient decrease and the strong curvature condition hold.
-// Derivative forward: forward differences: dim objective calls per gradient, error O(√u).
+// Derivative forward: forward differences: dim objective calls per gradient, intervals from the objective's curvature, error O(√u).
+// Gradient test relative: max over i of (|∂f/∂xᵢ| + eᵢ)·max(|xᵢ|, 1)/max(|f(x)|, 1), eᵢ the error bound of differences (0 for an analytic gradient).
 // Constants: initial 1.0, c1 0.0001, c2 0.1, at most 21 trials per line search.
-// Default stop: largest gradient component ≤ 0.01, every |Δxᵢ| ≤ 1e-06·(|xᵢ| + 1), 500 iterations, 10000 objective calls.
+// Default stop: gradient measure ≤ 0.0001, every |Δxᵢ| ≤ 1e-06·(|xᵢ| + 1), 500 iterations, 10000 objective calls.
 //
-// Worst case: 10000 objective calls, 3 of them per gradient (the evaluation cap; the iteration limit alone would allow 42004). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
+// Worst case: 10000 objective calls, 3 of them per gradient and 6 per choice of the difference intervals (at the start and before each convergence is confirmed) (the evaluation cap; the iteration limit alone would allow 48106). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
 func MinBowl(x0 [3]float32) MinBowlResult {
 	return MinBowlWithLimits(x0, MinBowlDefaultLimits())
@@ -100,11 +107,13 @@ func MinBowl(x0 [3]float32) MinBowlResult {
 func MinBowlWithLimits(x0 [3]float32, limits MinBowlLimits) MinBowlResult {
 	out := minBowlMinimize(x0, limits)
 	return MinBowlResult{
-		Evaluations: out.evaluations,
-		F:           out.f,
-		Iterations:  out.iterations,
-		Status:      out.status,
-		X:           out.x,
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
 	}
 }
 
@@ -118,26 +127,36 @@ const (
 	minBowlUnitRoundoff   = 5.960464477539063e-08 // unit roundoff u of the float type
 	minBowlLargestFinite  = 0x1.fffffep127        // the largest finite value of the float type
 	minBowlForwardScale   = 0.000244140625        // √u, forward-difference step scale (Nocedal & Wright 2006, §8.1)
+	minBowlCentralScale   = 0.00390625            // ∛u, central-difference step scale (Nocedal & Wright 2006, §8.1)
 )
 
 // minBowlMinimize runs the descent loop from x0 within lim:
 //
-//  1. stop when the largest gradient component is at most lim.Gradient;
+//  1. stop, converged, when the gradient measure (minBowlGradientMeasure, error
+//     bound of differences included) is at most the limit: lim.Gradient,
+//     or ten times the measure of the differences' error bound when that is
+//     larger, so that the limit can be met (the floor the test can see);
+//     differences confirm it first (minBowlConfirmGradient);
 //  2. stop after lim.Iterations accepted steps;
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
-//  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged,
-//     unless f contradicts an analytic gradient: no decrease);
+//  4. search along d; stop when no trial is acceptable or only steps
+//     shorter than the step limit are left to try: stalled, or no
+//     decrease when f contradicts an analytic gradient (see minBowlRiseTrend);
 //  5. move, refresh the gradient, let the direction learn from the step;
-//  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
+//  6. stop, stalled, when every |Δx_i| is at most lim.Step·(|x_i| + 1) while
+//     the gradient test still fails.
 //
-// Before every objective call it checks that lim.Evaluations leaves room
-// for it, so the cap is never exceeded. A NaN or ±Inf at the start or in a
+// Only step 1 is convergence: the first-order test holds at X. Before
+// every objective call it checks that lim.Evaluations leaves room for it,
+// so the cap is never exceeded. A NaN or ±Inf at the start or in a
 // gradient ends the run with its own status; a non-finite trial value is
-// rejected by the line search like any failed trial.
+// rejected by the line search like any failed trial. X is the best point
+// seen unless the run converged, which it did at X. A fixed step whose
+// value overflows, or that raised f above f(x0) at eight steps in a row,
+// ends the run as diverged (common practice for a divergence test).
 func minBowlMinimize(x0 [3]float32, lim MinBowlLimits) minBowlOutcome {
-	out := minBowlOutcome{x: x0, status: MinBowlOutOfEvaluations}
+	out := minBowlOutcome{x: x0, status: MinBowlOutOfEvaluations, gradient: float32(math.NaN())}
 	if lim.Evaluations < 1 {
 		return out
 	}
@@ -148,11 +167,14 @@ func minBowlMinimize(x0 [3]float32, lim MinBowlLimits) minBowlOutcome {
 		out.status = MinBowlNonFiniteStart
 		return out
 	}
-	if out.evaluations+minBowlDerivativeCost > lim.Evaluations {
+	var diffs minBowlDifferences
+	calls, ok := minBowlCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
+	out.evaluations += calls
+	if !ok || out.evaluations+minBowlDerivativeCost > lim.Evaluations {
 		return out
 	}
-	var g [3]float32
-	minBowlDerivative(&x, fx, &g)
+	var g, e [3]float32
+	minBowlDerivative(&x, fx, &g, &diffs)
 	out.evaluations += minBowlDerivativeCost
 
 	if !minBowlFiniteVec(&g) {
@@ -163,21 +185,47 @@ func minBowlMinimize(x0 [3]float32, lim MinBowlLimits) minBowlOutcome {
 	dir.reset()
 	var d, xt, gt, s, y [3]float32
 	t, slope := float32(minBowlStepInitial), float32(0) // the previous iteration's accepted step and slope
+	best := out                                         // the lowest point seen, for runs that end unconverged
+	start, rises := fx, 0                               // f(x0), and consecutive accepted steps that raised f above it
+	confirmed := false                                  // whether g and e at x come from minBowlConfirmGradient
 	for {
-		if minBowlMaxAbs(&g) <= lim.Gradient {
+		if !confirmed {
+			minBowlGradientError(&x, fx, &e, &diffs)
+		}
+		measure, floor := minBowlGradientMeasure(&g, &e, &x, fx)
+		out.gradient, out.gradientLimit = measure, minBowlLarger(lim.Gradient, 10*floor)
+		if out.f <= best.f {
+			best = out
+		}
+		if measure <= out.gradientLimit && (minBowlDerivativeCost == 0 || confirmed) {
 			out.status = MinBowlGradientSmall
 			return out
 		}
+		if measure <= out.gradientLimit {
+			// Differences pass the test: confirm it with intervals chosen
+			// here and an error measured rather than modelled.
+			calls, ok := minBowlConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(MinBowlOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !minBowlFiniteVec(&g) {
+				return best.ending(MinBowlNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			confirmed = true
+			continue
+		}
 		if out.iterations > 0 {
 			if minBowlStepWithin(&s, &x, lim.Step) {
-				out.status = MinBowlStepTiny
-				return out
+				return best.ending(MinBowlStalled, out.iterations, out.evaluations)
+			}
+			if rises >= 8 {
+				return best.ending(MinBowlDiverged, out.iterations, out.evaluations)
 			}
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
-			out.status = MinBowlOutOfIterations
-			return out
+			return best.ending(MinBowlOutOfIterations, out.iterations, out.evaluations)
 		}
 		dir.compute(&g, &d)
 		now := minBowlDot(&g, &d)
@@ -191,50 +239,59 @@ func minBowlMinimize(x0 [3]float32, lim MinBowlLimits) minBowlOutcome {
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := minBowlTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := minBowlLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt)
+		found := minBowlLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case minBowlSearchOutOfBudget:
-			return out
-		case minBowlSearchExhausted:
-			out.status = MinBowlNoAcceptableStep
-			return out
-		case minBowlSearchTiny:
-			// Converged to the step limit: no step the step test would
-			// reject decreases f. Not so when an analytic gradient is
-			// contradicted by f rising in proportion to the step (see
-			// minBowlRiseTrend, which never reports that for differences).
-			out.status = MinBowlStepTiny
-			if found.rising {
-				out.status = MinBowlNoDecrease
+			return best.ending(MinBowlOutOfEvaluations, out.iterations, out.evaluations)
+		case minBowlSearchDiverged:
+			return best.ending(MinBowlDiverged, out.iterations, out.evaluations)
+		case minBowlSearchExhausted, minBowlSearchTiny:
+			// No acceptable step. When an analytic gradient predicted a
+			// fall that f contradicted in proportion to the step, the
+			// gradient is probably wrong (see minBowlRiseTrend, which never
+			// reports that for differences); otherwise the search stalled
+			// below the step limit, or ran out of trials.
+			end := MinBowlNoAcceptableStep
+			switch {
+			case found.rising:
+				end = MinBowlNoDecrease
+			case found.end == minBowlSearchTiny:
+				end = MinBowlStalled
 			}
-			return out
+			return best.ending(end, out.iterations, out.evaluations)
 		}
 		if !minBowlFiniteVec(&xt) {
-			out.status = MinBowlNoAcceptableStep // the accepted trial overflowed x
-			return out
+			return best.ending(MinBowlNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
 		}
 		if !found.gradient {
 			if out.evaluations+minBowlDerivativeCost > lim.Evaluations {
-				if found.value < fx { // keep a better point even without its gradient
-					out.x, out.f = xt, found.value
+				if found.value < best.f { // keep a better point even without its gradient
+					best.x, best.f, best.gradient = xt, found.value, float32(math.NaN())
 					out.iterations++
 				}
-				return out
+				return best.ending(MinBowlOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			minBowlDerivative(&xt, found.value, &gt)
+			minBowlDerivative(&xt, found.value, &gt, &diffs)
 			out.evaluations += minBowlDerivativeCost
 		}
 		out.iterations++
 		minBowlDifference(&s, &xt, &x)
 		minBowlDifference(&y, &gt, &g)
-		x, fx, g = xt, found.value, gt
-		out.x, out.f = x, fx
+		if found.value > fx && found.value > start {
+			rises++
+		} else {
+			rises = 0
+		}
+		x, fx, g, confirmed = xt, found.value, gt, false
+		out.x, out.f, out.gradient = x, fx, float32(math.NaN())
 		t, slope = found.step, now
 
 		if !minBowlFiniteVec(&g) {
-			out.status = MinBowlNonFiniteGradient
-			return out
+			if out.f < best.f {
+				best = out
+			}
+			return best.ending(MinBowlNonFiniteGradient, out.iterations, out.evaluations)
 		}
 	}
 }
@@ -242,11 +299,19 @@ func minBowlMinimize(x0 [3]float32, lim MinBowlLimits) minBowlOutcome {
 // minBowlOutcome is the kernel's report; the generated entry point copies it into
 // the spec's result type.
 type minBowlOutcome struct {
-	x           [3]float32
-	f           float32
-	iterations  int
-	evaluations int
-	status      MinBowlStatus
+	x             [3]float32
+	f             float32
+	gradient      float32 // the stop test's measure at x, error bound included; NaN when not known
+	gradientLimit float32 // the limit that measure was held to
+	iterations    int
+	evaluations   int
+	status        MinBowlStatus
+}
+
+// ending is the best point seen, reported with the run's end and counts.
+func (o minBowlOutcome) ending(end MinBowlStatus, iterations, evaluations int) minBowlOutcome {
+	o.status, o.iterations, o.evaluations = end, iterations, evaluations
+	return o
 }
 
 // minBowlFinite reports whether v is neither NaN nor ±Inf, by comparing it with
@@ -271,22 +336,70 @@ func minBowlFiniteVec(x *[3]float32) bool {
 	return true
 }
 
-// minBowlDerivative approximates the gradient by forward differences,
+// minBowlDifferences is what the difference gradients learn from the objective
+// at the start: for each coordinate i, the interval as a multiple of
+// max(1, |x_i|), and the curvature along e_i it was chosen from (|f”| for
+// forward differences, |f”'| for central ones). The analytic gradient
+// leaves it unused.
+type minBowlDifferences struct {
+	ratio     [3]float32
+	curvature [3]float32
+}
+
+// minBowlCalibrate chooses each forward-difference interval from the
+// second derivative along e_i, estimated at x with two probes at
+// ±h̄, h̄ = ∛u·s, s = max(1, |x_i|):
 //
-//	g_i ≈ (f(x + h_i e_i) − f(x)) / h_i,  h_i = √u · max(1, |x_i|),
+//	f''  ≈ (f(x + h̄eᵢ) − 2f(x) + f(x − h̄eᵢ)) / h̄²,
+//	h_i  = 2·√(ε_A / |f''|)
 //
-// with error O(h) (Nocedal & Wright 2006, eq. 8.1 and the step choice
-// that follows it). It costs dim objective calls.
-func minBowlDerivative(x *[3]float32, fx float32, g *[3]float32) {
+// the interval that balances the truncation error h|f”|/2 against the
+// rounding error 2ε_A/h (Gill, Murray, Saunders & Wright 1983, §2; Nocedal
+// & Wright 2006, §8.1). An estimate of f” below its own rounding noise
+// 4ε_A/h̄² is replaced by that noise, and h_i is kept within [√u·s, h̄],
+// so that it neither vanishes in rounding nor leaves the local model. It
+// costs two objective calls per unknown.
+//
+// References:
+//   - P. E. Gill, W. Murray, M. A. Saunders and M. H. Wright, Computing
+//     forward-difference intervals for numerical optimization, SIAM J.
+//     Sci. Stat. Comput. 4(2):310–321, 1983.
+//   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
+//     Springer, 2006, §8.1.
+func minBowlCalibrate(x *[3]float32, fx float32, diffs *minBowlDifferences, budget int) (int, bool) {
 	probe := *x
+	calls := 0
 	for i := range probe {
 		xi := probe[i]
-		h := minBowlForwardScale * minBowlLarger(1, minBowlAbs(xi)) // N&W §8.1: h = √u·max(1,|x_i|)
-		probe[i] = xi + h
-		h = probe[i] - xi // the step actually representable in elem
-		g[i] = (Bowl(probe[:]) - fx) / h
+		s := minBowlLarger(1, minBowlAbs(xi))
+		bar := minBowlCentralScale * s
+		if calls+2 > budget {
+			return calls, false
+		}
+		up, hUp := minBowlProbeStep(xi, bar)
+		probe[i] = up
+		fUp := Bowl(probe[:])
+		down, hDown := minBowlProbeStep(xi, -bar)
+		probe[i] = down
+		fDown := Bowl(probe[:])
 		probe[i] = xi
+		calls += 2
+		noise := minBowlNoiseLevel(minBowlLarger(minBowlAbs(fx), minBowlLarger(minBowlMagnitude(fUp), minBowlMagnitude(fDown))))
+		h := hUp
+		second := float32(0)
+		if minBowlFinite(fUp) && minBowlFinite(fDown) {
+			// f'' from the two one-sided slopes over the representable
+			// steps hUp > 0 > hDown.
+			second = minBowlAbs((fUp-fx)/hUp-(fx-fDown)/(-hDown)) * 2 / (hUp - hDown)
+		}
+		second = minBowlLarger(second, 4*noise/(h*h))
+		if second > 0 {
+			h = 2 * minBowlSquareRoot(noise/second) // GMSW 1983: h = 2√(ε_A/|f''|)
+		}
+		diffs.ratio[i] = minBowlClampBetween(h, minBowlForwardScale*s, bar) / s
+		diffs.curvature[i] = second
 	}
+	return calls, true
 }
 
 // minBowlLarger returns the larger of a and b, or a NaN among them. The builtin
@@ -305,6 +418,65 @@ func minBowlAbs(v float32) float32 {
 		return -v
 	}
 	return v
+}
+
+// minBowlProbeStep returns x_i moved by h, and the step actually representable.
+func minBowlProbeStep(xi, h float32) (float32, float32) {
+	moved := xi + h
+	return moved, moved - xi
+}
+
+// minBowlNoiseLevel is the absolute error assumed in a computed value fx of the
+// objective, ε_A = 4u·|fx|: a few roundings of the result (common
+// practice; Gill, Murray, Saunders & Wright 1983 leave ε_A to the user).
+func minBowlNoiseLevel(fx float32) float32 {
+	return 4 * minBowlUnitRoundoff * minBowlAbs(fx)
+}
+
+// minBowlMagnitude is |v| for a finite v and 0 otherwise: a probe that fell
+// outside the objective's domain says nothing about its rounding.
+func minBowlMagnitude(v float32) float32 {
+	if !minBowlFinite(v) {
+		return 0
+	}
+	return minBowlAbs(v)
+}
+
+// minBowlSquareRoot returns √v.
+func minBowlSquareRoot(v float32) float32 {
+	return float32(math.Sqrt(float64(v)))
+}
+
+// minBowlClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func minBowlClampBetween(v, a, b float32) float32 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// minBowlDerivative approximates the gradient by forward differences,
+//
+//	g_i ≈ (f(x + h_i e_i) − f(x)) / h_i,
+//
+// with the intervals minBowlCalibrate chose, h_i = ratio_i·max(1, |x_i|)
+// (Nocedal & Wright 2006, eq. 8.1). It costs dim objective calls.
+func minBowlDerivative(x *[3]float32, fx float32, g *[3]float32, diffs *minBowlDifferences) {
+	probe := *x
+	for i := range probe {
+		xi := probe[i]
+		up, h := minBowlProbeStep(xi, diffs.ratio[i]*minBowlLarger(1, minBowlAbs(xi)))
+		probe[i] = up
+		g[i] = (Bowl(probe[:]) - fx) / h // N&W eq. 8.1, with the representable h
+		probe[i] = xi
+	}
 }
 
 // minBowlDirection is nonlinear conjugate gradients with the Polak–Ribière
@@ -379,15 +551,68 @@ func minBowlScaledTrial(t, slope, now float32) float32 {
 	return next
 }
 
-// minBowlMaxAbs returns the largest |x_i|, the infinity norm.
-func minBowlMaxAbs(x *[3]float32) float32 {
-	var m float32
-	for i := range x {
-		if a := minBowlAbs(x[i]); a > m || a != a {
-			m = a
-		}
+// minBowlGradientError bounds each forward difference's error by twice its
+// truncation h|f”|/2 plus rounding 2ε_A/h, with f” from the last
+// calibration and ε_A at fx (Nocedal & Wright 2006, §8.1; the factor 2
+// allows for f” changing within the interval and since the calibration,
+// common practice).
+func minBowlGradientError(x *[3]float32, fx float32, e *[3]float32, diffs *minBowlDifferences) {
+	noise := minBowlNoiseLevel(fx)
+	for i := range e {
+		h := diffs.ratio[i] * minBowlLarger(1, minBowlAbs(x[i]))
+		e[i] = 2 * (h*diffs.curvature[i]/2 + 2*noise/h)
 	}
-	return m
+}
+
+// minBowlGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func minBowlGradientMeasure(g, e, x *[3]float32, fx float32) (measure, floor float32) {
+	scale := minBowlLarger(minBowlAbs(fx), 1)
+	for i := range g {
+		w := minBowlLarger(minBowlAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = minBowlLarger(measure, (minBowlAbs(g[i])+e[i])*w)
+		floor = minBowlLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// minBowlConfirmGradient recomputes a difference gradient at x before the run is
+// called converged there: it chooses the intervals again from the
+// curvature at x (calibrate), computes g with them and with twice them,
+// and bounds each component's error by the model (minBowlGradientError) plus
+// three times the change the doubling made. That change measures what the
+// model can miss, truncation from curvature that varies and rounding
+// noise above 4u·|f|; as one sample of that noise it is tripled
+// (Richardson's idea of comparing two intervals; the factor is common
+// practice for a posteriori error estimates). It costs a calibration and two
+// gradients, and returns the calls spent and false when budget ran out
+// first.
+func minBowlConfirmGradient(x *[3]float32, fx float32, g, e *[3]float32, diffs *minBowlDifferences, budget int) (int, bool) {
+	calls, ok := minBowlCalibrate(x, fx, diffs, budget)
+	if !ok || calls+2*minBowlDerivativeCost > budget {
+		return calls, false
+	}
+	wide := *diffs
+	for i := range wide.ratio {
+		wide.ratio[i] *= 2
+	}
+	var doubled [3]float32
+	minBowlDerivative(x, fx, g, diffs)
+	minBowlDerivative(x, fx, &doubled, &wide)
+	minBowlGradientError(x, fx, e, diffs)
+	for i := range e {
+		e[i] += 3 * minBowlAbs(g[i]-doubled[i])
+	}
+	return calls + 2*minBowlDerivativeCost, true
 }
 
 // minBowlStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
@@ -438,7 +663,7 @@ func minBowlTinyStep(x, d *[3]float32, tol float32) float32 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func minBowlLineSearch(x *[3]float32, fx float32, d *[3]float32, slope, first, tiny float32, budget int, xt, gt *[3]float32) minBowlLineResult {
+func minBowlLineSearch(x *[3]float32, fx float32, d *[3]float32, slope, first, tiny float32, budget int, xt, gt *[3]float32, diffs *minBowlDifferences) minBowlLineResult {
 	low := minBowlLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high minBowlLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float32                                       // ∇f at low, kept for accepting low from a collapsed bracket
@@ -470,7 +695,7 @@ func minBowlLineSearch(x *[3]float32, fx float32, d *[3]float32, slope, first, t
 			if calls+minBowlDerivativeCost > budget {
 				return minBowlLineResult{calls: calls, end: minBowlSearchOutOfBudget}
 			}
-			minBowlDerivative(xt, current.value, gt)
+			minBowlDerivative(xt, current.value, gt, diffs)
 			calls += minBowlDerivativeCost
 			current.slope, current.hasSlope = minBowlDot(gt, d), true
 			switch {
@@ -495,7 +720,7 @@ func minBowlLineSearch(x *[3]float32, fx float32, d *[3]float32, slope, first, t
 	if low.step > 0 {
 		return minBowlAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
 	}
-	return minBowlLineResult{calls: calls, end: minBowlSearchExhausted}
+	return minBowlLineResult{calls: calls, rising: trend.contradicts(), end: minBowlSearchExhausted}
 }
 
 // minBowlLineResult is what a line search reports to the kernel.
@@ -596,6 +821,7 @@ const (
 	minBowlSearchExhausted                           // minBowlStepTrials trials met none
 	minBowlSearchOutOfBudget                         // the evaluation cap came first
 	minBowlSearchTiny                                // every step longer than tiny failed to decrease f
+	minBowlSearchDiverged                            // a fixed step's value overflowed
 )
 
 // minBowlAcceptLow ends a Wolfe search with its best trial, which met sufficient
@@ -661,26 +887,6 @@ func minBowlModelMinimizer(a, b *minBowlLinePoint) (t float32, ok bool) {
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, minBowlFinite(t)
-}
-
-// minBowlSquareRoot returns √v.
-func minBowlSquareRoot(v float32) float32 {
-	return float32(math.Sqrt(float64(v)))
-}
-
-// minBowlClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func minBowlClampBetween(v, a, b float32) float32 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // minBowlExpandTrial picks a larger trial after current met sufficient decrease

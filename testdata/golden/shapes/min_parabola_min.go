@@ -2,14 +2,16 @@
 
 package shapes
 
+import "math"
+
 // MinParabolaStatus tells why MinParabola stopped. Only the statuses for which Converged is true say that X is a minimizer to the spec's tolerances; check it before acting on a result.
 type MinParabolaStatus uint8
 
 const (
-	// MinParabolaGradientSmall: the largest gradient component fell to the gradient limit: converged.
+	// MinParabolaGradientSmall: the gradient test holds at X: its measure, with the differences' error bound when they are used, is at most the gradient limit: converged.
 	MinParabolaGradientSmall MinParabolaStatus = iota + 1
-	// MinParabolaStepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f: converged.
-	MinParabolaStepTiny
+	// MinParabolaStalled: the step test ended the run, or no step longer than the step limit decreased f, while the gradient test still fails: X is as far as the run could get, not a verified minimizer.
+	MinParabolaStalled
 	// MinParabolaOutOfIterations: the iteration limit came first.
 	MinParabolaOutOfIterations
 	// MinParabolaOutOfEvaluations: the next objective call would have exceeded the evaluation cap.
@@ -20,8 +22,10 @@ const (
 	MinParabolaNonFiniteStart
 	// MinParabolaNonFiniteGradient: a gradient component became NaN or ±Inf.
 	MinParabolaNonFiniteGradient
-	// MinParabolaNoDecrease: no step longer than the step limit decreased f, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test).
+	// MinParabolaNoDecrease: the line search found no acceptable step, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test).
 	MinParabolaNoDecrease
+	// MinParabolaDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
+	MinParabolaDiverged
 )
 
 // String describes the status in a few words.
@@ -29,8 +33,8 @@ func (s MinParabolaStatus) String() string {
 	switch s {
 	case MinParabolaGradientSmall:
 		return "gradient small"
-	case MinParabolaStepTiny:
-		return "step tiny"
+	case MinParabolaStalled:
+		return "stalled"
 	case MinParabolaOutOfIterations:
 		return "out of iterations"
 	case MinParabolaOutOfEvaluations:
@@ -43,28 +47,32 @@ func (s MinParabolaStatus) String() string {
 		return "non-finite gradient"
 	case MinParabolaNoDecrease:
 		return "no decrease"
+	case MinParabolaDiverged:
+		return "diverged"
 	default:
 		return "unknown status"
 	}
 }
 
-// Converged reports whether a convergence test, on the gradient or on the step, ended the run; limits, line-search failure and non-finite values are not convergence.
+// Converged reports whether the gradient test holds at X (Gradient ≤ GradientLimit in the result): only then is X a verified stationary point; a stall, the limits, line-search failure and non-finite values are not convergence.
 func (s MinParabolaStatus) Converged() bool {
-	return s == MinParabolaGradientSmall || s == MinParabolaStepTiny
+	return s == MinParabolaGradientSmall
 }
 
 // MinParabolaResult is where MinParabola stopped and why.
 type MinParabolaResult struct {
-	X           float64           // the last accepted point, the best one found
-	F           float64           // the objective at X
-	Iterations  int               // accepted steps
-	Evaluations int               // objective calls, finite differences included
-	Status      MinParabolaStatus // why the run stopped; check Status.Converged()
+	X             float64           // where the gradient test held, when converged; else the lowest point seen
+	F             float64           // the objective at X
+	Gradient      float64           // the gradient test's measure at X, the differences' error bound included; NaN when the run ended before the gradient at X was known
+	GradientLimit float64           // the limit Gradient was held to: Limits.Gradient, raised with differences to ten times the measure of their error bound; converged runs have Gradient ≤ GradientLimit
+	Iterations    int               // accepted steps
+	Evaluations   int               // objective calls, finite differences included
+	Status        MinParabolaStatus // why the run stopped; check Status.Converged()
 }
 
 // MinParabolaLimits are the stop limits of one run. Pass them to MinParabolaWithLimits to change them at run time; MinParabolaDefaultLimits returns the spec's.
 type MinParabolaLimits struct {
-	Gradient    float64 // stop when the largest |∂f/∂xᵢ| is at most this
+	Gradient    float64 // stop, converged, when the gradient test's measure is at most this (with differences, at most ten times the measure of their error bound where that is larger)
 	Step        float64 // stop when every |Δxᵢ| is at most this·(|xᵢ| + 1)
 	Iterations  int     // most accepted steps
 	Evaluations int     // hard cap on objective calls, finite differences included; never exceeded
@@ -83,12 +91,13 @@ func MinParabolaDefaultLimits() MinParabolaLimits {
 // MinParabola minimizes Parabola from x0, as shapes.toml specifies.
 //
 // Direction bfgs: BFGS quasi-Newton with a dense inverse-Hessian approximation (dim² numbers).
-// Step rule armijo: backtrack from `initial` until the Armijo sufficient-decrease test holds.
-// Derivative central: central differences: 2·dim objective calls per gradient, error O(u^(2/3)).
-// Constants: initial 1.0, shrink 0.5, c1 0.0001, at most 48 trials per line search.
-// Default stop: largest gradient component ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 500 iterations, 10000 objective calls.
+// Step rule wolfe: bracket and zoom until sufficient decrease and the curvature condition hold.
+// Derivative central: central differences: 2·dim objective calls per gradient, intervals from the objective's curvature, error O(u^(2/3)).
+// Gradient test relative: max over i of (|∂f/∂xᵢ| + eᵢ)·max(|xᵢ|, 1)/max(|f(x)|, 1), eᵢ the error bound of differences (0 for an analytic gradient).
+// Constants: initial 1.0, c1 0.0001, c2 0.9, at most 48 trials per line search.
+// Default stop: gradient measure ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 500 iterations, 10000 objective calls.
 //
-// Worst case: 10000 objective calls, 2 of them per gradient (the evaluation cap; the iteration limit alone would allow 25003). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
+// Worst case: 10000 objective calls, 2 of them per gradient and 4 per choice of the difference intervals (at the start and before each convergence is confirmed) (the evaluation cap; the iteration limit alone would allow 76159). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
 func MinParabola(x0 float64) MinParabolaResult {
 	return MinParabolaWithLimits(x0, MinParabolaDefaultLimits())
@@ -98,44 +107,55 @@ func MinParabola(x0 float64) MinParabolaResult {
 func MinParabolaWithLimits(x0 float64, limits MinParabolaLimits) MinParabolaResult {
 	out := minParabolaMinimize([1]float64{x0}, limits)
 	return MinParabolaResult{
-		Evaluations: out.evaluations,
-		F:           out.f,
-		Iterations:  out.iterations,
-		Status:      out.status,
-		X:           out.x[0],
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x[0],
 	}
 }
 
 // Tunables of MinParabola from shapes.toml; the kernels below read them.
 const (
 	minParabolaStepInitial    = 1.0                    // step.initial
-	minParabolaStepShrink     = 0.5                    // step.shrink
 	minParabolaStepDecrease   = 0.0001                 // step.decrease (c1)
+	minParabolaStepCurvature  = 0.9                    // step.curvature (c2)
 	minParabolaStepTrials     = 48                     // step.trials
 	minParabolaDerivativeCost = 2                      // objective calls per gradient
 	minParabolaUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
 	minParabolaLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
-	minParabolaCentralScale   = 4.806217383937352e-06  // ∛u, central-difference step scale (Nocedal & Wright 2006, §8.1)
+	minParabolaForwardScale   = 1.0536712127723509e-08 // √u, forward-difference step scale (Nocedal & Wright 2006, §8.1)
 )
 
 // minParabolaMinimize runs the descent loop from x0 within lim:
 //
-//  1. stop when the largest gradient component is at most lim.Gradient;
+//  1. stop, converged, when the gradient measure (minParabolaGradientMeasure, error
+//     bound of differences included) is at most the limit: lim.Gradient,
+//     or ten times the measure of the differences' error bound when that is
+//     larger, so that the limit can be met (the floor the test can see);
+//     differences confirm it first (minParabolaConfirmGradient);
 //  2. stop after lim.Iterations accepted steps;
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
-//  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged,
-//     unless f contradicts an analytic gradient: no decrease);
+//  4. search along d; stop when no trial is acceptable or only steps
+//     shorter than the step limit are left to try: stalled, or no
+//     decrease when f contradicts an analytic gradient (see minParabolaRiseTrend);
 //  5. move, refresh the gradient, let the direction learn from the step;
-//  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
+//  6. stop, stalled, when every |Δx_i| is at most lim.Step·(|x_i| + 1) while
+//     the gradient test still fails.
 //
-// Before every objective call it checks that lim.Evaluations leaves room
-// for it, so the cap is never exceeded. A NaN or ±Inf at the start or in a
+// Only step 1 is convergence: the first-order test holds at X. Before
+// every objective call it checks that lim.Evaluations leaves room for it,
+// so the cap is never exceeded. A NaN or ±Inf at the start or in a
 // gradient ends the run with its own status; a non-finite trial value is
-// rejected by the line search like any failed trial.
+// rejected by the line search like any failed trial. X is the best point
+// seen unless the run converged, which it did at X. A fixed step whose
+// value overflows, or that raised f above f(x0) at eight steps in a row,
+// ends the run as diverged (common practice for a divergence test).
 func minParabolaMinimize(x0 [1]float64, lim MinParabolaLimits) minParabolaOutcome {
-	out := minParabolaOutcome{x: x0, status: MinParabolaOutOfEvaluations}
+	out := minParabolaOutcome{x: x0, status: MinParabolaOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
@@ -146,11 +166,14 @@ func minParabolaMinimize(x0 [1]float64, lim MinParabolaLimits) minParabolaOutcom
 		out.status = MinParabolaNonFiniteStart
 		return out
 	}
-	if out.evaluations+minParabolaDerivativeCost > lim.Evaluations {
+	var diffs minParabolaDifferences
+	calls, ok := minParabolaCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
+	out.evaluations += calls
+	if !ok || out.evaluations+minParabolaDerivativeCost > lim.Evaluations {
 		return out
 	}
-	var g [1]float64
-	minParabolaDerivative(&x, fx, &g)
+	var g, e [1]float64
+	minParabolaDerivative(&x, fx, &g, &diffs)
 	out.evaluations += minParabolaDerivativeCost
 
 	if !minParabolaFiniteVec(&g) {
@@ -161,21 +184,47 @@ func minParabolaMinimize(x0 [1]float64, lim MinParabolaLimits) minParabolaOutcom
 	dir.reset()
 	var d, xt, gt, s, y [1]float64
 	t, slope := float64(minParabolaStepInitial), float64(0) // the previous iteration's accepted step and slope
+	best := out                                             // the lowest point seen, for runs that end unconverged
+	start, rises := fx, 0                                   // f(x0), and consecutive accepted steps that raised f above it
+	confirmed := false                                      // whether g and e at x come from minParabolaConfirmGradient
 	for {
-		if minParabolaMaxAbs(&g) <= lim.Gradient {
+		if !confirmed {
+			minParabolaGradientError(&x, fx, &e, &diffs)
+		}
+		measure, floor := minParabolaGradientMeasure(&g, &e, &x, fx)
+		out.gradient, out.gradientLimit = measure, minParabolaLarger(lim.Gradient, 10*floor)
+		if out.f <= best.f {
+			best = out
+		}
+		if measure <= out.gradientLimit && (minParabolaDerivativeCost == 0 || confirmed) {
 			out.status = MinParabolaGradientSmall
 			return out
 		}
+		if measure <= out.gradientLimit {
+			// Differences pass the test: confirm it with intervals chosen
+			// here and an error measured rather than modelled.
+			calls, ok := minParabolaConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(MinParabolaOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !minParabolaFiniteVec(&g) {
+				return best.ending(MinParabolaNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			confirmed = true
+			continue
+		}
 		if out.iterations > 0 {
 			if minParabolaStepWithin(&s, &x, lim.Step) {
-				out.status = MinParabolaStepTiny
-				return out
+				return best.ending(MinParabolaStalled, out.iterations, out.evaluations)
+			}
+			if rises >= 8 {
+				return best.ending(MinParabolaDiverged, out.iterations, out.evaluations)
 			}
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
-			out.status = MinParabolaOutOfIterations
-			return out
+			return best.ending(MinParabolaOutOfIterations, out.iterations, out.evaluations)
 		}
 		dir.compute(&g, &d)
 		now := minParabolaDot(&g, &d)
@@ -189,50 +238,59 @@ func minParabolaMinimize(x0 [1]float64, lim MinParabolaLimits) minParabolaOutcom
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := minParabolaTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := minParabolaLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt)
+		found := minParabolaLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case minParabolaSearchOutOfBudget:
-			return out
-		case minParabolaSearchExhausted:
-			out.status = MinParabolaNoAcceptableStep
-			return out
-		case minParabolaSearchTiny:
-			// Converged to the step limit: no step the step test would
-			// reject decreases f. Not so when an analytic gradient is
-			// contradicted by f rising in proportion to the step (see
-			// minParabolaRiseTrend, which never reports that for differences).
-			out.status = MinParabolaStepTiny
-			if found.rising {
-				out.status = MinParabolaNoDecrease
+			return best.ending(MinParabolaOutOfEvaluations, out.iterations, out.evaluations)
+		case minParabolaSearchDiverged:
+			return best.ending(MinParabolaDiverged, out.iterations, out.evaluations)
+		case minParabolaSearchExhausted, minParabolaSearchTiny:
+			// No acceptable step. When an analytic gradient predicted a
+			// fall that f contradicted in proportion to the step, the
+			// gradient is probably wrong (see minParabolaRiseTrend, which never
+			// reports that for differences); otherwise the search stalled
+			// below the step limit, or ran out of trials.
+			end := MinParabolaNoAcceptableStep
+			switch {
+			case found.rising:
+				end = MinParabolaNoDecrease
+			case found.end == minParabolaSearchTiny:
+				end = MinParabolaStalled
 			}
-			return out
+			return best.ending(end, out.iterations, out.evaluations)
 		}
 		if !minParabolaFiniteVec(&xt) {
-			out.status = MinParabolaNoAcceptableStep // the accepted trial overflowed x
-			return out
+			return best.ending(MinParabolaNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
 		}
 		if !found.gradient {
 			if out.evaluations+minParabolaDerivativeCost > lim.Evaluations {
-				if found.value < fx { // keep a better point even without its gradient
-					out.x, out.f = xt, found.value
+				if found.value < best.f { // keep a better point even without its gradient
+					best.x, best.f, best.gradient = xt, found.value, math.NaN()
 					out.iterations++
 				}
-				return out
+				return best.ending(MinParabolaOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			minParabolaDerivative(&xt, found.value, &gt)
+			minParabolaDerivative(&xt, found.value, &gt, &diffs)
 			out.evaluations += minParabolaDerivativeCost
 		}
 		out.iterations++
 		minParabolaDifference(&s, &xt, &x)
 		minParabolaDifference(&y, &gt, &g)
-		x, fx, g = xt, found.value, gt
-		out.x, out.f = x, fx
+		if found.value > fx && found.value > start {
+			rises++
+		} else {
+			rises = 0
+		}
+		x, fx, g, confirmed = xt, found.value, gt, false
+		out.x, out.f, out.gradient = x, fx, math.NaN()
 		t, slope = found.step, now
 
 		if !minParabolaFiniteVec(&g) {
-			out.status = MinParabolaNonFiniteGradient
-			return out
+			if out.f < best.f {
+				best = out
+			}
+			return best.ending(MinParabolaNonFiniteGradient, out.iterations, out.evaluations)
 		}
 	}
 }
@@ -240,11 +298,19 @@ func minParabolaMinimize(x0 [1]float64, lim MinParabolaLimits) minParabolaOutcom
 // minParabolaOutcome is the kernel's report; the generated entry point copies it into
 // the spec's result type.
 type minParabolaOutcome struct {
-	x           [1]float64
-	f           float64
-	iterations  int
-	evaluations int
-	status      MinParabolaStatus
+	x             [1]float64
+	f             float64
+	gradient      float64 // the stop test's measure at x, error bound included; NaN when not known
+	gradientLimit float64 // the limit that measure was held to
+	iterations    int
+	evaluations   int
+	status        MinParabolaStatus
+}
+
+// ending is the best point seen, reported with the run's end and counts.
+func (o minParabolaOutcome) ending(end MinParabolaStatus, iterations, evaluations int) minParabolaOutcome {
+	o.status, o.iterations, o.evaluations = end, iterations, evaluations
+	return o
 }
 
 // minParabolaFinite reports whether v is neither NaN nor ±Inf, by comparing it with
@@ -269,26 +335,67 @@ func minParabolaFiniteVec(x *[1]float64) bool {
 	return true
 }
 
-// minParabolaDerivative approximates the gradient by central differences,
+// minParabolaDifferences is what the difference gradients learn from the objective
+// at the start: for each coordinate i, the interval as a multiple of
+// max(1, |x_i|), and the curvature along e_i it was chosen from (|f”| for
+// forward differences, |f”'| for central ones). The analytic gradient
+// leaves it unused.
+type minParabolaDifferences struct {
+	ratio     [1]float64
+	curvature [1]float64
+}
+
+// minParabolaCalibrate chooses each central-difference interval from the
+// third derivative along e_i, estimated at x with four probes at ±h̄ and
+// ±2h̄, h̄ = u^(1/4)·s, s = max(1, |x_i|):
 //
-//	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),  h_i = ∛u · max(1, |x_i|),
+//	f''' ≈ (f(x + 2h̄eᵢ) − 2f(x + h̄eᵢ) + 2f(x − h̄eᵢ) − f(x − 2h̄eᵢ)) / (2h̄³),
+//	h_i  = ∛(3ε_A / |f'''|)
 //
-// with error O(h²) (Nocedal & Wright 2006, eq. 8.7 and §8.1). It costs
-// 2·dim objective calls; fx is not needed.
-func minParabolaDerivative(x *[1]float64, fx float64, g *[1]float64) {
+// the interval that minimizes the truncation error h²|f”'|/6 plus the
+// rounding error ε_A/h of a central difference (Nocedal & Wright 2006,
+// §8.1, with the third-derivative estimate of the forward interval's
+// procedure of Gill, Murray, Saunders & Wright 1983 carried one order
+// up). An estimate below its rounding noise 3ε_A/h̄³ is replaced by that
+// noise, and h_i is kept within [√u·s, h̄]. It costs four objective calls
+// per unknown.
+func minParabolaCalibrate(x *[1]float64, fx float64, diffs *minParabolaDifferences, budget int) (int, bool) {
 	probe := *x
+	calls := 0
+	quarter := minParabolaSquareRoot(minParabolaSquareRoot(minParabolaUnitRoundoff)) // u^(1/4)
 	for i := range probe {
 		xi := probe[i]
-		h := minParabolaCentralScale * minParabolaLarger(1, minParabolaAbs(xi)) // N&W §8.1: h = ∛u·max(1,|x_i|)
-		up := xi + h
-		down := xi - h
-		probe[i] = up
-		fUp := Parabola(probe[0])
-		probe[i] = down
-		fDown := Parabola(probe[0])
-		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+		s := minParabolaLarger(1, minParabolaAbs(xi))
+		bar := quarter * s
+		if calls+4 > budget {
+			return calls, false
+		}
+		var f [4]float64
+		for k, m := range [4]float64{2, 1, -1, -2} {
+			probe[i], _ = minParabolaProbeStep(xi, m*bar)
+			f[k] = Parabola(probe[0])
+		}
 		probe[i] = xi
+		calls += 4
+		noise := minParabolaNoiseLevel(minParabolaLarger(minParabolaLarger(minParabolaAbs(fx), minParabolaMagnitude(f[0])), minParabolaLarger(minParabolaLarger(minParabolaMagnitude(f[1]), minParabolaMagnitude(f[2])), minParabolaMagnitude(f[3]))))
+		third := float64(0)
+		if minParabolaFinite(f[0]) && minParabolaFinite(f[1]) && minParabolaFinite(f[2]) && minParabolaFinite(f[3]) {
+			third = minParabolaAbs(f[0]-2*f[1]+2*f[2]-f[3]) / (2 * bar * bar * bar)
+		}
+		third = minParabolaLarger(third, 3*noise/(bar*bar*bar))
+		h := bar
+		if third > 0 {
+			h = minParabolaCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f'''|/6 + ε_A/h
+		}
+		diffs.ratio[i] = minParabolaClampBetween(h, minParabolaForwardScale*s, bar) / s
+		diffs.curvature[i] = third
 	}
+	return calls, true
+}
+
+// minParabolaSquareRoot returns √v.
+func minParabolaSquareRoot(v float64) float64 {
+	return math.Sqrt(v)
 }
 
 // minParabolaLarger returns the larger of a and b, or a NaN among them. The builtin
@@ -307,6 +414,71 @@ func minParabolaAbs(v float64) float64 {
 		return -v
 	}
 	return v
+}
+
+// minParabolaProbeStep returns x_i moved by h, and the step actually representable.
+func minParabolaProbeStep(xi, h float64) (float64, float64) {
+	moved := xi + h
+	return moved, moved - xi
+}
+
+// minParabolaNoiseLevel is the absolute error assumed in a computed value fx of the
+// objective, ε_A = 4u·|fx|: a few roundings of the result (common
+// practice; Gill, Murray, Saunders & Wright 1983 leave ε_A to the user).
+func minParabolaNoiseLevel(fx float64) float64 {
+	return 4 * minParabolaUnitRoundoff * minParabolaAbs(fx)
+}
+
+// minParabolaMagnitude is |v| for a finite v and 0 otherwise: a probe that fell
+// outside the objective's domain says nothing about its rounding.
+func minParabolaMagnitude(v float64) float64 {
+	if !minParabolaFinite(v) {
+		return 0
+	}
+	return minParabolaAbs(v)
+}
+
+// minParabolaCubeRoot returns ∛v for v ≥ 0.
+func minParabolaCubeRoot(v float64) float64 {
+	return math.Cbrt(v)
+}
+
+// minParabolaClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func minParabolaClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// minParabolaDerivative approximates the gradient by central differences,
+//
+//	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),
+//
+// with the intervals minParabolaCalibrate chose, h_i = ratio_i·max(1, |x_i|)
+// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls; fx is
+// not needed.
+func minParabolaDerivative(x *[1]float64, fx float64, g *[1]float64, diffs *minParabolaDifferences) {
+	probe := *x
+	for i := range probe {
+		xi := probe[i]
+		h := diffs.ratio[i] * minParabolaLarger(1, minParabolaAbs(xi))
+		up, _ := minParabolaProbeStep(xi, h)
+		down, _ := minParabolaProbeStep(xi, -h)
+		probe[i] = up
+		fUp := Parabola(probe[0])
+		probe[i] = down
+		fDown := Parabola(probe[0])
+		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+		probe[i] = xi
+	}
 }
 
 // minParabolaDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
@@ -399,15 +571,67 @@ func minParabolaCurvatureSafe(s, y *[1]float64) bool {
 	return sy > 0 && (sy/minParabolaDot(s, s))*(sy/minParabolaDot(y, y)) > minParabolaUnitRoundoff
 }
 
-// minParabolaMaxAbs returns the largest |x_i|, the infinity norm.
-func minParabolaMaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := minParabolaAbs(x[i]); a > m || a != a {
-			m = a
-		}
+// minParabolaGradientError bounds each central difference's error by twice its
+// truncation h²|f”'|/6 plus rounding ε_A/h, with f”' from the last
+// calibration and ε_A at fx (Nocedal & Wright 2006, §8.1; the factor 2 as
+// in forwardError).
+func minParabolaGradientError(x *[1]float64, fx float64, e *[1]float64, diffs *minParabolaDifferences) {
+	noise := minParabolaNoiseLevel(fx)
+	for i := range e {
+		h := diffs.ratio[i] * minParabolaLarger(1, minParabolaAbs(x[i]))
+		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
 	}
-	return m
+}
+
+// minParabolaGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func minParabolaGradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
+	scale := minParabolaLarger(minParabolaAbs(fx), 1)
+	for i := range g {
+		w := minParabolaLarger(minParabolaAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = minParabolaLarger(measure, (minParabolaAbs(g[i])+e[i])*w)
+		floor = minParabolaLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// minParabolaConfirmGradient recomputes a difference gradient at x before the run is
+// called converged there: it chooses the intervals again from the
+// curvature at x (calibrate), computes g with them and with twice them,
+// and bounds each component's error by the model (minParabolaGradientError) plus
+// three times the change the doubling made. That change measures what the
+// model can miss, truncation from curvature that varies and rounding
+// noise above 4u·|f|; as one sample of that noise it is tripled
+// (Richardson's idea of comparing two intervals; the factor is common
+// practice for a posteriori error estimates). It costs a calibration and two
+// gradients, and returns the calls spent and false when budget ran out
+// first.
+func minParabolaConfirmGradient(x *[1]float64, fx float64, g, e *[1]float64, diffs *minParabolaDifferences, budget int) (int, bool) {
+	calls, ok := minParabolaCalibrate(x, fx, diffs, budget)
+	if !ok || calls+2*minParabolaDerivativeCost > budget {
+		return calls, false
+	}
+	wide := *diffs
+	for i := range wide.ratio {
+		wide.ratio[i] *= 2
+	}
+	var doubled [1]float64
+	minParabolaDerivative(x, fx, g, diffs)
+	minParabolaDerivative(x, fx, &doubled, &wide)
+	minParabolaGradientError(x, fx, e, diffs)
+	for i := range e {
+		e[i] += 3 * minParabolaAbs(g[i]-doubled[i])
+	}
+	return calls + 2*minParabolaDerivativeCost, true
 }
 
 // minParabolaStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
@@ -436,30 +660,86 @@ func minParabolaTinyStep(x, d *[1]float64, tol float64) float64 {
 	return tiny
 }
 
-// minParabolaLineSearch backtracks from the trial step first until the rule's
-// acceptance test holds, taking t ← next trial after each
-// failure, by fixed shrink or by interpolation (Nocedal & Wright 2006,
-// Algorithm 3.1 and §3.5). A non-finite value fails like any trial.
-func minParabolaLineSearch(x *[1]float64, fx float64, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64) minParabolaLineResult {
+// minParabolaLineSearch finds a step meeting the Wolfe conditions
+//
+//	f(x + t·d) ≤ f(x) + c1·t·∇f(x)ᵀd                (sufficient decrease)
+//	∇f(x + t·d)ᵀd ≥ c2·∇f(x)ᵀd                      (curvature, "wolfe")
+//	|∇f(x + t·d)ᵀd| ≤ c2·|∇f(x)ᵀd|                  (strong curvature, "strong-wolfe")
+//
+// with 0 < c1 = minParabolaStepDecrease < c2 = minParabolaStepCurvature < 1 (Nocedal & Wright
+// 2006, eqs. 3.6 and 3.7). It brackets an acceptable step by expansion,
+// then narrows the bracket (Algorithms 3.5 and 3.6), choosing each trial by
+// safeguarded interpolation (§3.5). The gradient is computed only at trials
+// that pass sufficient decrease, since only they can be accepted or become
+// the low end of a bracket; the accepted trial's value and gradient are
+// handed back, so the kernel never pays for them twice. A non-finite trial
+// value counts as a failure of sufficient decrease.
+//
+// References:
+//   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
+//     11(2):226–235, 1969.
+//   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
+//     Springer, 2006, §3.1 and §3.5.
+//   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
+//     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
+func minParabolaLineSearch(x *[1]float64, fx float64, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *minParabolaDifferences) minParabolaLineResult {
+	low := minParabolaLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
+	var high minParabolaLinePoint                                        // the other end of the bracket, once bracketed
+	var lowGradient [1]float64                                           // ∇f at low, kept for accepting low from a collapsed bracket
+	bracketed := false
+	var trend minParabolaRiseTrend // of the trials failing sufficient decrease
 	t := first
-	var previous, fPrevious float64
-	var trend minParabolaRiseTrend
+	calls := 0
 	for trial := 0; trial < minParabolaStepTrials; trial++ {
-		if trial > 0 && t <= tiny {
-			return minParabolaLineResult{calls: trial, rising: trend.contradicts(), end: minParabolaTinyOrExhausted(minParabolaFinite(fPrevious))}
+		if bracketed && minParabolaAbs(high.step-low.step) <= tiny {
+			// The bracket is below the step limit: take low when it
+			// decreased f; else no step decreased f, unless f was not
+			// finite there.
+			if low.step == 0 {
+				return minParabolaLineResult{calls: calls, rising: trend.contradicts(), end: minParabolaTinyOrExhausted(minParabolaFinite(high.value))}
+			}
+			return minParabolaAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
 		}
-		if trial >= budget {
-			return minParabolaLineResult{calls: trial, end: minParabolaSearchOutOfBudget}
+		if calls >= budget {
+			return minParabolaLineResult{calls: calls, end: minParabolaSearchOutOfBudget}
 		}
 		minParabolaMoveTo(xt, x, t, d)
-		ft := Parabola(xt[0])
-		if minParabolaFinite(ft) && minParabolaAcceptable(fx, ft, t, slope) {
-			return minParabolaLineResult{step: t, value: ft, calls: trial + 1, end: minParabolaSearchAccepted}
+		current := minParabolaLinePoint{step: t, value: Parabola(xt[0])}
+		calls++
+		previous := low
+		if !minParabolaFinite(current.value) || current.value > fx+minParabolaStepDecrease*t*slope || current.value >= low.value { // N&W Alg. 3.5 and 3.6, first test
+			high, bracketed = current, true // too far: [low, current] holds an acceptable step
+			trend.add(x, xt, d, t, current.value-fx, fx)
+		} else {
+			if calls+minParabolaDerivativeCost > budget {
+				return minParabolaLineResult{calls: calls, end: minParabolaSearchOutOfBudget}
+			}
+			minParabolaDerivative(xt, current.value, gt, diffs)
+			calls += minParabolaDerivativeCost
+			current.slope, current.hasSlope = minParabolaDot(gt, d), true
+			switch {
+			case !minParabolaFinite(current.slope):
+				high, bracketed = current, true
+			case minParabolaCurvatureMet(current.slope, slope):
+				return minParabolaLineResult{step: t, value: current.value, calls: calls, gradient: true, end: minParabolaSearchAccepted}
+			case bracketed && current.slope*(high.step-low.step) >= 0:
+				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
+			case !bracketed && current.slope >= 0:
+				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			default:
+				low, lowGradient = current, *gt
+			}
 		}
-		trend.add(x, xt, d, t, ft-fx, fx)
-		t, previous, fPrevious = minParabolaBacktrackTrial(fx, slope, t, ft, previous, fPrevious), t, ft
+		if bracketed {
+			t = minParabolaZoomTrial(&low, &high)
+		} else {
+			t = minParabolaExpandTrial(&previous, &current)
+		}
 	}
-	return minParabolaLineResult{calls: minParabolaStepTrials, end: minParabolaSearchExhausted}
+	if low.step > 0 {
+		return minParabolaAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+	}
+	return minParabolaLineResult{calls: calls, rising: trend.contradicts(), end: minParabolaSearchExhausted}
 }
 
 // minParabolaLineResult is what a line search reports to the kernel.
@@ -474,6 +754,13 @@ type minParabolaLineResult struct {
 
 // minParabolaSearchEnd tells how a line search ended.
 type minParabolaSearchEnd uint8
+
+// minParabolaLinePoint is one trial of a Wolfe search: the step, φ(step) = f(x+step·d)
+// and, when known, φ'(step) = ∇f(x+step·d)ᵀd.
+type minParabolaLinePoint struct {
+	step, value, slope float64
+	hasSlope           bool
+}
 
 // minParabolaRiseTrend watches the failed trials of one line search, shortest last,
 // for the mark of a wrong gradient: f rising in proportion to the step,
@@ -553,7 +840,19 @@ const (
 	minParabolaSearchExhausted                               // minParabolaStepTrials trials met none
 	minParabolaSearchOutOfBudget                             // the evaluation cap came first
 	minParabolaSearchTiny                                    // every step longer than tiny failed to decrease f
+	minParabolaSearchDiverged                                // a fixed step's value overflowed
 )
+
+// minParabolaAcceptLow ends a Wolfe search with its best trial, which met sufficient
+// decrease though not the curvature condition, when the bracket collapsed
+// or the trials ran out. Its gradient was kept in lowGradient. (When the
+// budget runs out the search ends without a step instead, so that a capped
+// run follows the uncapped run's path up to the cap.)
+func minParabolaAcceptLow(x, d *[1]float64, low *minParabolaLinePoint, lowGradient *[1]float64, calls int, xt, gt *[1]float64) minParabolaLineResult {
+	minParabolaMoveTo(xt, x, low.step, d)
+	*gt = *lowGradient
+	return minParabolaLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: minParabolaSearchAccepted}
+}
 
 // minParabolaMoveTo sets out = x + t·d.
 func minParabolaMoveTo(out, x *[1]float64, t float64, d *[1]float64) {
@@ -562,24 +861,64 @@ func minParabolaMoveTo(out, x *[1]float64, t float64, d *[1]float64) {
 	}
 }
 
-// minParabolaAcceptable is the Armijo sufficient-decrease condition
-//
-//	f(x + t·d) ≤ f(x) + c1·t·∇f(x)ᵀd,  c1 = minParabolaStepDecrease
-//
-// (Armijo 1966; Nocedal & Wright 2006, eq. 3.4 and Algorithm 3.1).
-//
-// References:
-//   - L. Armijo, Minimization of functions having Lipschitz continuous
-//     first partial derivatives, Pacific J. Math. 16(1):1–3, 1966.
-//   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
-//     Springer, 2006, §3.1 and §3.5.
-func minParabolaAcceptable(fx, ft, t, slope float64) bool {
-	return ft <= fx+minParabolaStepDecrease*t*slope // N&W eq. 3.4
+// minParabolaCurvatureMet is the Wolfe curvature condition φ'(t) ≥ c2·φ'(0)
+// (Nocedal & Wright 2006, eq. 3.6b).
+func minParabolaCurvatureMet(now, initial float64) bool {
+	return now >= minParabolaStepCurvature*initial // N&W eq. 3.6b
 }
 
-// minParabolaBacktrackTrial is t·minParabolaStepShrink (Nocedal & Wright 2006, Algorithm 3.1).
-func minParabolaBacktrackTrial(fx, slope, t, ft, previous, fPrevious float64) float64 {
-	return t * minParabolaStepShrink
+// minParabolaZoomTrial picks the next trial inside the bracket between low and high:
+// the minimizer of the cubic through both ends when both slopes are known,
+// otherwise of the quadratic through low's value and slope and high's value
+// (N&W 2006, §3.5, eqs. 3.58–3.59), kept at least a tenth of the bracket
+// away from either end so that the bracket shrinks geometrically (common
+// practice; Moré & Thuente 1994 use a safeguard of the same kind). A model
+// without a minimizer falls back to bisection.
+func minParabolaZoomTrial(low, high *minParabolaLinePoint) float64 {
+	margin := 0.1 * (high.step - low.step)
+	next, ok := minParabolaModelMinimizer(low, high)
+	if !ok {
+		return low.step + 0.5*(high.step-low.step)
+	}
+	return minParabolaClampBetween(next, low.step+margin, high.step-margin)
+}
+
+// minParabolaModelMinimizer returns the minimizer of the cubic interpolating values
+// and slopes at a and b (N&W 2006, eq. 3.59), or, when b's slope is
+// unknown, of the quadratic through a's value and slope and b's value; ok
+// is false when the model has no finite minimizer.
+func minParabolaModelMinimizer(a, b *minParabolaLinePoint) (t float64, ok bool) {
+	delta := b.step - a.step
+	if !b.hasSlope {
+		// q(t) = φ(a) + φ'(a)·(t − a) + c·(t − a)², minimized at a − φ'(a)/(2c).
+		c := (b.value - a.value - a.slope*delta) / (delta * delta)
+		t = a.step - a.slope/(2*c)
+		return t, c > 0 && minParabolaFinite(t)
+	}
+	d1 := a.slope + b.slope - 3*(a.value-b.value)/(a.step-b.step) // N&W eq. 3.59
+	radicand := d1*d1 - a.slope*b.slope
+	if !(radicand >= 0) {
+		return 0, false // the cubic has no local minimizer
+	}
+	d2 := minParabolaSquareRoot(radicand)
+	if delta < 0 {
+		d2 = -d2 // sign(b − a) in eq. 3.59
+	}
+	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
+	return t, minParabolaFinite(t)
+}
+
+// minParabolaExpandTrial picks a larger trial after current met sufficient decrease
+// with a slope still steeply negative: the model's minimizer through
+// previous and current, kept within [2, 8] times current's step (common
+// practice; Moré & Thuente 1994 bound extrapolation in the same way with
+// factors of their own).
+func minParabolaExpandTrial(previous, current *minParabolaLinePoint) float64 {
+	next, ok := minParabolaModelMinimizer(previous, current)
+	if !ok {
+		return 2 * current.step
+	}
+	return minParabolaClampBetween(next, 2*current.step, 8*current.step)
 }
 
 // minParabolaDifference sets out = a − b.

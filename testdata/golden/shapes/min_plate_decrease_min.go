@@ -8,10 +8,10 @@ import "math"
 type MinPlateDecreaseStatus uint8
 
 const (
-	// MinPlateDecreaseGradientSmall: the largest gradient component fell to the gradient limit: converged.
+	// MinPlateDecreaseGradientSmall: the gradient test holds at X: its measure, with the differences' error bound when they are used, is at most the gradient limit: converged.
 	MinPlateDecreaseGradientSmall MinPlateDecreaseStatus = iota + 1
-	// MinPlateDecreaseStepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f: converged.
-	MinPlateDecreaseStepTiny
+	// MinPlateDecreaseStalled: the step test ended the run, or no step longer than the step limit decreased f, while the gradient test still fails: X is as far as the run could get, not a verified minimizer.
+	MinPlateDecreaseStalled
 	// MinPlateDecreaseOutOfIterations: the iteration limit came first.
 	MinPlateDecreaseOutOfIterations
 	// MinPlateDecreaseOutOfEvaluations: the next objective call would have exceeded the evaluation cap.
@@ -22,8 +22,10 @@ const (
 	MinPlateDecreaseNonFiniteStart
 	// MinPlateDecreaseNonFiniteGradient: a gradient component became NaN or ±Inf.
 	MinPlateDecreaseNonFiniteGradient
-	// MinPlateDecreaseNoDecrease: no step longer than the step limit decreased f, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test).
+	// MinPlateDecreaseNoDecrease: the line search found no acceptable step, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test).
 	MinPlateDecreaseNoDecrease
+	// MinPlateDecreaseDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
+	MinPlateDecreaseDiverged
 )
 
 // String describes the status in a few words.
@@ -31,8 +33,8 @@ func (s MinPlateDecreaseStatus) String() string {
 	switch s {
 	case MinPlateDecreaseGradientSmall:
 		return "gradient small"
-	case MinPlateDecreaseStepTiny:
-		return "step tiny"
+	case MinPlateDecreaseStalled:
+		return "stalled"
 	case MinPlateDecreaseOutOfIterations:
 		return "out of iterations"
 	case MinPlateDecreaseOutOfEvaluations:
@@ -45,28 +47,32 @@ func (s MinPlateDecreaseStatus) String() string {
 		return "non-finite gradient"
 	case MinPlateDecreaseNoDecrease:
 		return "no decrease"
+	case MinPlateDecreaseDiverged:
+		return "diverged"
 	default:
 		return "unknown status"
 	}
 }
 
-// Converged reports whether a convergence test, on the gradient or on the step, ended the run; limits, line-search failure and non-finite values are not convergence.
+// Converged reports whether the gradient test holds at X (Gradient ≤ GradientLimit in the result): only then is X a verified stationary point; a stall, the limits, line-search failure and non-finite values are not convergence.
 func (s MinPlateDecreaseStatus) Converged() bool {
-	return s == MinPlateDecreaseGradientSmall || s == MinPlateDecreaseStepTiny
+	return s == MinPlateDecreaseGradientSmall
 }
 
 // MinPlateDecreaseResult is where MinPlateDecrease stopped and why.
 type MinPlateDecreaseResult struct {
-	X           [2]float32             // the last accepted point, the best one found
-	F           float32                // the objective at X
-	Iterations  int                    // accepted steps
-	Evaluations int                    // objective calls, finite differences included
-	Status      MinPlateDecreaseStatus // why the run stopped; check Status.Converged()
+	X             [2]float32             // where the gradient test held, when converged; else the lowest point seen
+	F             float32                // the objective at X
+	Gradient      float32                // the gradient test's measure at X, the differences' error bound included; NaN when the run ended before the gradient at X was known
+	GradientLimit float32                // the limit Gradient was held to: Limits.Gradient, raised with differences to ten times the measure of their error bound; converged runs have Gradient ≤ GradientLimit
+	Iterations    int                    // accepted steps
+	Evaluations   int                    // objective calls, finite differences included
+	Status        MinPlateDecreaseStatus // why the run stopped; check Status.Converged()
 }
 
 // MinPlateDecreaseLimits are the stop limits of one run. Pass them to MinPlateDecreaseWithLimits to change them at run time; MinPlateDecreaseDefaultLimits returns the spec's.
 type MinPlateDecreaseLimits struct {
-	Gradient    float32 // stop when the largest |∂f/∂xᵢ| is at most this
+	Gradient    float32 // stop, converged, when the gradient test's measure is at most this (with differences, at most ten times the measure of their error bound where that is larger)
 	Step        float32 // stop when every |Δxᵢ| is at most this·(|xᵢ| + 1)
 	Iterations  int     // most accepted steps
 	Evaluations int     // hard cap on objective calls, finite differences included; never exceeded
@@ -76,7 +82,7 @@ type MinPlateDecreaseLimits struct {
 func MinPlateDecreaseDefaultLimits() MinPlateDecreaseLimits {
 	return MinPlateDecreaseLimits{
 		Evaluations: 10000,
-		Gradient:    0.001,
+		Gradient:    0.0001,
 		Iterations:  500,
 		Step:        1e-06,
 	}
@@ -86,11 +92,12 @@ func MinPlateDecreaseDefaultLimits() MinPlateDecreaseLimits {
 //
 // Direction steepest: steepest descent, d = −∇f; no memory, linear convergence.
 // Step rule decrease: backtrack from `initial` until f decreases at all.
-// Derivative central: central differences: 2·dim objective calls per gradient, error O(u^(2/3)).
+// Derivative central: central differences: 2·dim objective calls per gradient, intervals from the objective's curvature, error O(u^(2/3)).
+// Gradient test relative: max over i of (|∂f/∂xᵢ| + eᵢ)·max(|xᵢ|, 1)/max(|f(x)|, 1), eᵢ the error bound of differences (0 for an analytic gradient).
 // Constants: initial 1.0, shrink 0.5, at most 21 trials per line search, trials by safeguarded quadratic/cubic interpolation.
-// Default stop: largest gradient component ≤ 0.001, every |Δxᵢ| ≤ 1e-06·(|xᵢ| + 1), 500 iterations, 10000 objective calls.
+// Default stop: gradient measure ≤ 0.0001, every |Δxᵢ| ≤ 1e-06·(|xᵢ| + 1), 500 iterations, 10000 objective calls.
 //
-// Worst case: 10000 objective calls, 4 of them per gradient (the evaluation cap; the iteration limit alone would allow 12505). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
+// Worst case: 10000 objective calls, 4 of them per gradient and 8 per choice of the difference intervals (at the start and before each convergence is confirmed) (the evaluation cap; the iteration limit alone would allow 20554). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
 func MinPlateDecrease(x0 [2]float32) MinPlateDecreaseResult {
 	return MinPlateDecreaseWithLimits(x0, MinPlateDecreaseDefaultLimits())
@@ -100,11 +107,13 @@ func MinPlateDecrease(x0 [2]float32) MinPlateDecreaseResult {
 func MinPlateDecreaseWithLimits(x0 [2]float32, limits MinPlateDecreaseLimits) MinPlateDecreaseResult {
 	out := minPlateDecreaseMinimize(x0, limits)
 	return MinPlateDecreaseResult{
-		Evaluations: out.evaluations,
-		F:           out.f,
-		Iterations:  out.iterations,
-		Status:      out.status,
-		X:           out.x,
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
 	}
 }
 
@@ -116,27 +125,36 @@ const (
 	minPlateDecreaseDerivativeCost = 4                     // objective calls per gradient
 	minPlateDecreaseUnitRoundoff   = 5.960464477539063e-08 // unit roundoff u of the float type
 	minPlateDecreaseLargestFinite  = 0x1.fffffep127        // the largest finite value of the float type
-	minPlateDecreaseCentralScale   = 0.00390625            // ∛u, central-difference step scale (Nocedal & Wright 2006, §8.1)
+	minPlateDecreaseForwardScale   = 0.000244140625        // √u, forward-difference step scale (Nocedal & Wright 2006, §8.1)
 )
 
 // minPlateDecreaseMinimize runs the descent loop from x0 within lim:
 //
-//  1. stop when the largest gradient component is at most lim.Gradient;
+//  1. stop, converged, when the gradient measure (minPlateDecreaseGradientMeasure, error
+//     bound of differences included) is at most the limit: lim.Gradient,
+//     or ten times the measure of the differences' error bound when that is
+//     larger, so that the limit can be met (the floor the test can see);
+//     differences confirm it first (minPlateDecreaseConfirmGradient);
 //  2. stop after lim.Iterations accepted steps;
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
-//  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged,
-//     unless f contradicts an analytic gradient: no decrease);
+//  4. search along d; stop when no trial is acceptable or only steps
+//     shorter than the step limit are left to try: stalled, or no
+//     decrease when f contradicts an analytic gradient (see minPlateDecreaseRiseTrend);
 //  5. move, refresh the gradient, let the direction learn from the step;
-//  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
+//  6. stop, stalled, when every |Δx_i| is at most lim.Step·(|x_i| + 1) while
+//     the gradient test still fails.
 //
-// Before every objective call it checks that lim.Evaluations leaves room
-// for it, so the cap is never exceeded. A NaN or ±Inf at the start or in a
+// Only step 1 is convergence: the first-order test holds at X. Before
+// every objective call it checks that lim.Evaluations leaves room for it,
+// so the cap is never exceeded. A NaN or ±Inf at the start or in a
 // gradient ends the run with its own status; a non-finite trial value is
-// rejected by the line search like any failed trial.
+// rejected by the line search like any failed trial. X is the best point
+// seen unless the run converged, which it did at X. A fixed step whose
+// value overflows, or that raised f above f(x0) at eight steps in a row,
+// ends the run as diverged (common practice for a divergence test).
 func minPlateDecreaseMinimize(x0 [2]float32, lim MinPlateDecreaseLimits) minPlateDecreaseOutcome {
-	out := minPlateDecreaseOutcome{x: x0, status: MinPlateDecreaseOutOfEvaluations}
+	out := minPlateDecreaseOutcome{x: x0, status: MinPlateDecreaseOutOfEvaluations, gradient: float32(math.NaN())}
 	if lim.Evaluations < 1 {
 		return out
 	}
@@ -147,11 +165,14 @@ func minPlateDecreaseMinimize(x0 [2]float32, lim MinPlateDecreaseLimits) minPlat
 		out.status = MinPlateDecreaseNonFiniteStart
 		return out
 	}
-	if out.evaluations+minPlateDecreaseDerivativeCost > lim.Evaluations {
+	var diffs minPlateDecreaseDifferences
+	calls, ok := minPlateDecreaseCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
+	out.evaluations += calls
+	if !ok || out.evaluations+minPlateDecreaseDerivativeCost > lim.Evaluations {
 		return out
 	}
-	var g [2]float32
-	minPlateDecreaseDerivative(&x, fx, &g)
+	var g, e [2]float32
+	minPlateDecreaseDerivative(&x, fx, &g, &diffs)
 	out.evaluations += minPlateDecreaseDerivativeCost
 
 	if !minPlateDecreaseFiniteVec(&g) {
@@ -162,21 +183,47 @@ func minPlateDecreaseMinimize(x0 [2]float32, lim MinPlateDecreaseLimits) minPlat
 	dir.reset()
 	var d, xt, gt, s, y [2]float32
 	t, slope := float32(minPlateDecreaseStepInitial), float32(0) // the previous iteration's accepted step and slope
+	best := out                                                  // the lowest point seen, for runs that end unconverged
+	start, rises := fx, 0                                        // f(x0), and consecutive accepted steps that raised f above it
+	confirmed := false                                           // whether g and e at x come from minPlateDecreaseConfirmGradient
 	for {
-		if minPlateDecreaseMaxAbs(&g) <= lim.Gradient {
+		if !confirmed {
+			minPlateDecreaseGradientError(&x, fx, &e, &diffs)
+		}
+		measure, floor := minPlateDecreaseGradientMeasure(&g, &e, &x, fx)
+		out.gradient, out.gradientLimit = measure, minPlateDecreaseLarger(lim.Gradient, 10*floor)
+		if out.f <= best.f {
+			best = out
+		}
+		if measure <= out.gradientLimit && (minPlateDecreaseDerivativeCost == 0 || confirmed) {
 			out.status = MinPlateDecreaseGradientSmall
 			return out
 		}
+		if measure <= out.gradientLimit {
+			// Differences pass the test: confirm it with intervals chosen
+			// here and an error measured rather than modelled.
+			calls, ok := minPlateDecreaseConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(MinPlateDecreaseOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !minPlateDecreaseFiniteVec(&g) {
+				return best.ending(MinPlateDecreaseNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			confirmed = true
+			continue
+		}
 		if out.iterations > 0 {
 			if minPlateDecreaseStepWithin(&s, &x, lim.Step) {
-				out.status = MinPlateDecreaseStepTiny
-				return out
+				return best.ending(MinPlateDecreaseStalled, out.iterations, out.evaluations)
+			}
+			if rises >= 8 {
+				return best.ending(MinPlateDecreaseDiverged, out.iterations, out.evaluations)
 			}
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
-			out.status = MinPlateDecreaseOutOfIterations
-			return out
+			return best.ending(MinPlateDecreaseOutOfIterations, out.iterations, out.evaluations)
 		}
 		dir.compute(&g, &d)
 		now := minPlateDecreaseDot(&g, &d)
@@ -190,50 +237,59 @@ func minPlateDecreaseMinimize(x0 [2]float32, lim MinPlateDecreaseLimits) minPlat
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := minPlateDecreaseTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := minPlateDecreaseLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt)
+		found := minPlateDecreaseLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case minPlateDecreaseSearchOutOfBudget:
-			return out
-		case minPlateDecreaseSearchExhausted:
-			out.status = MinPlateDecreaseNoAcceptableStep
-			return out
-		case minPlateDecreaseSearchTiny:
-			// Converged to the step limit: no step the step test would
-			// reject decreases f. Not so when an analytic gradient is
-			// contradicted by f rising in proportion to the step (see
-			// minPlateDecreaseRiseTrend, which never reports that for differences).
-			out.status = MinPlateDecreaseStepTiny
-			if found.rising {
-				out.status = MinPlateDecreaseNoDecrease
+			return best.ending(MinPlateDecreaseOutOfEvaluations, out.iterations, out.evaluations)
+		case minPlateDecreaseSearchDiverged:
+			return best.ending(MinPlateDecreaseDiverged, out.iterations, out.evaluations)
+		case minPlateDecreaseSearchExhausted, minPlateDecreaseSearchTiny:
+			// No acceptable step. When an analytic gradient predicted a
+			// fall that f contradicted in proportion to the step, the
+			// gradient is probably wrong (see minPlateDecreaseRiseTrend, which never
+			// reports that for differences); otherwise the search stalled
+			// below the step limit, or ran out of trials.
+			end := MinPlateDecreaseNoAcceptableStep
+			switch {
+			case found.rising:
+				end = MinPlateDecreaseNoDecrease
+			case found.end == minPlateDecreaseSearchTiny:
+				end = MinPlateDecreaseStalled
 			}
-			return out
+			return best.ending(end, out.iterations, out.evaluations)
 		}
 		if !minPlateDecreaseFiniteVec(&xt) {
-			out.status = MinPlateDecreaseNoAcceptableStep // the accepted trial overflowed x
-			return out
+			return best.ending(MinPlateDecreaseNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
 		}
 		if !found.gradient {
 			if out.evaluations+minPlateDecreaseDerivativeCost > lim.Evaluations {
-				if found.value < fx { // keep a better point even without its gradient
-					out.x, out.f = xt, found.value
+				if found.value < best.f { // keep a better point even without its gradient
+					best.x, best.f, best.gradient = xt, found.value, float32(math.NaN())
 					out.iterations++
 				}
-				return out
+				return best.ending(MinPlateDecreaseOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			minPlateDecreaseDerivative(&xt, found.value, &gt)
+			minPlateDecreaseDerivative(&xt, found.value, &gt, &diffs)
 			out.evaluations += minPlateDecreaseDerivativeCost
 		}
 		out.iterations++
 		minPlateDecreaseDifference(&s, &xt, &x)
 		minPlateDecreaseDifference(&y, &gt, &g)
-		x, fx, g = xt, found.value, gt
-		out.x, out.f = x, fx
+		if found.value > fx && found.value > start {
+			rises++
+		} else {
+			rises = 0
+		}
+		x, fx, g, confirmed = xt, found.value, gt, false
+		out.x, out.f, out.gradient = x, fx, float32(math.NaN())
 		t, slope = found.step, now
 
 		if !minPlateDecreaseFiniteVec(&g) {
-			out.status = MinPlateDecreaseNonFiniteGradient
-			return out
+			if out.f < best.f {
+				best = out
+			}
+			return best.ending(MinPlateDecreaseNonFiniteGradient, out.iterations, out.evaluations)
 		}
 	}
 }
@@ -241,11 +297,19 @@ func minPlateDecreaseMinimize(x0 [2]float32, lim MinPlateDecreaseLimits) minPlat
 // minPlateDecreaseOutcome is the kernel's report; the generated entry point copies it into
 // the spec's result type.
 type minPlateDecreaseOutcome struct {
-	x           [2]float32
-	f           float32
-	iterations  int
-	evaluations int
-	status      MinPlateDecreaseStatus
+	x             [2]float32
+	f             float32
+	gradient      float32 // the stop test's measure at x, error bound included; NaN when not known
+	gradientLimit float32 // the limit that measure was held to
+	iterations    int
+	evaluations   int
+	status        MinPlateDecreaseStatus
+}
+
+// ending is the best point seen, reported with the run's end and counts.
+func (o minPlateDecreaseOutcome) ending(end MinPlateDecreaseStatus, iterations, evaluations int) minPlateDecreaseOutcome {
+	o.status, o.iterations, o.evaluations = end, iterations, evaluations
+	return o
 }
 
 // minPlateDecreaseFinite reports whether v is neither NaN nor ±Inf, by comparing it with
@@ -270,26 +334,67 @@ func minPlateDecreaseFiniteVec(x *[2]float32) bool {
 	return true
 }
 
-// minPlateDecreaseDerivative approximates the gradient by central differences,
+// minPlateDecreaseDifferences is what the difference gradients learn from the objective
+// at the start: for each coordinate i, the interval as a multiple of
+// max(1, |x_i|), and the curvature along e_i it was chosen from (|f”| for
+// forward differences, |f”'| for central ones). The analytic gradient
+// leaves it unused.
+type minPlateDecreaseDifferences struct {
+	ratio     [2]float32
+	curvature [2]float32
+}
+
+// minPlateDecreaseCalibrate chooses each central-difference interval from the
+// third derivative along e_i, estimated at x with four probes at ±h̄ and
+// ±2h̄, h̄ = u^(1/4)·s, s = max(1, |x_i|):
 //
-//	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),  h_i = ∛u · max(1, |x_i|),
+//	f''' ≈ (f(x + 2h̄eᵢ) − 2f(x + h̄eᵢ) + 2f(x − h̄eᵢ) − f(x − 2h̄eᵢ)) / (2h̄³),
+//	h_i  = ∛(3ε_A / |f'''|)
 //
-// with error O(h²) (Nocedal & Wright 2006, eq. 8.7 and §8.1). It costs
-// 2·dim objective calls; fx is not needed.
-func minPlateDecreaseDerivative(x *[2]float32, fx float32, g *[2]float32) {
+// the interval that minimizes the truncation error h²|f”'|/6 plus the
+// rounding error ε_A/h of a central difference (Nocedal & Wright 2006,
+// §8.1, with the third-derivative estimate of the forward interval's
+// procedure of Gill, Murray, Saunders & Wright 1983 carried one order
+// up). An estimate below its rounding noise 3ε_A/h̄³ is replaced by that
+// noise, and h_i is kept within [√u·s, h̄]. It costs four objective calls
+// per unknown.
+func minPlateDecreaseCalibrate(x *[2]float32, fx float32, diffs *minPlateDecreaseDifferences, budget int) (int, bool) {
 	probe := *x
+	calls := 0
+	quarter := minPlateDecreaseSquareRoot(minPlateDecreaseSquareRoot(minPlateDecreaseUnitRoundoff)) // u^(1/4)
 	for i := range probe {
 		xi := probe[i]
-		h := minPlateDecreaseCentralScale * minPlateDecreaseLarger(1, minPlateDecreaseAbs(xi)) // N&W §8.1: h = ∛u·max(1,|x_i|)
-		up := xi + h
-		down := xi - h
-		probe[i] = up
-		fUp := Plate(&probe)
-		probe[i] = down
-		fDown := Plate(&probe)
-		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+		s := minPlateDecreaseLarger(1, minPlateDecreaseAbs(xi))
+		bar := quarter * s
+		if calls+4 > budget {
+			return calls, false
+		}
+		var f [4]float32
+		for k, m := range [4]float32{2, 1, -1, -2} {
+			probe[i], _ = minPlateDecreaseProbeStep(xi, m*bar)
+			f[k] = Plate(&probe)
+		}
 		probe[i] = xi
+		calls += 4
+		noise := minPlateDecreaseNoiseLevel(minPlateDecreaseLarger(minPlateDecreaseLarger(minPlateDecreaseAbs(fx), minPlateDecreaseMagnitude(f[0])), minPlateDecreaseLarger(minPlateDecreaseLarger(minPlateDecreaseMagnitude(f[1]), minPlateDecreaseMagnitude(f[2])), minPlateDecreaseMagnitude(f[3]))))
+		third := float32(0)
+		if minPlateDecreaseFinite(f[0]) && minPlateDecreaseFinite(f[1]) && minPlateDecreaseFinite(f[2]) && minPlateDecreaseFinite(f[3]) {
+			third = minPlateDecreaseAbs(f[0]-2*f[1]+2*f[2]-f[3]) / (2 * bar * bar * bar)
+		}
+		third = minPlateDecreaseLarger(third, 3*noise/(bar*bar*bar))
+		h := bar
+		if third > 0 {
+			h = minPlateDecreaseCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f'''|/6 + ε_A/h
+		}
+		diffs.ratio[i] = minPlateDecreaseClampBetween(h, minPlateDecreaseForwardScale*s, bar) / s
+		diffs.curvature[i] = third
 	}
+	return calls, true
+}
+
+// minPlateDecreaseSquareRoot returns √v.
+func minPlateDecreaseSquareRoot(v float32) float32 {
+	return float32(math.Sqrt(float64(v)))
 }
 
 // minPlateDecreaseLarger returns the larger of a and b, or a NaN among them. The builtin
@@ -308,6 +413,71 @@ func minPlateDecreaseAbs(v float32) float32 {
 		return -v
 	}
 	return v
+}
+
+// minPlateDecreaseProbeStep returns x_i moved by h, and the step actually representable.
+func minPlateDecreaseProbeStep(xi, h float32) (float32, float32) {
+	moved := xi + h
+	return moved, moved - xi
+}
+
+// minPlateDecreaseNoiseLevel is the absolute error assumed in a computed value fx of the
+// objective, ε_A = 4u·|fx|: a few roundings of the result (common
+// practice; Gill, Murray, Saunders & Wright 1983 leave ε_A to the user).
+func minPlateDecreaseNoiseLevel(fx float32) float32 {
+	return 4 * minPlateDecreaseUnitRoundoff * minPlateDecreaseAbs(fx)
+}
+
+// minPlateDecreaseMagnitude is |v| for a finite v and 0 otherwise: a probe that fell
+// outside the objective's domain says nothing about its rounding.
+func minPlateDecreaseMagnitude(v float32) float32 {
+	if !minPlateDecreaseFinite(v) {
+		return 0
+	}
+	return minPlateDecreaseAbs(v)
+}
+
+// minPlateDecreaseCubeRoot returns ∛v for v ≥ 0.
+func minPlateDecreaseCubeRoot(v float32) float32 {
+	return float32(math.Cbrt(float64(v)))
+}
+
+// minPlateDecreaseClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func minPlateDecreaseClampBetween(v, a, b float32) float32 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// minPlateDecreaseDerivative approximates the gradient by central differences,
+//
+//	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),
+//
+// with the intervals minPlateDecreaseCalibrate chose, h_i = ratio_i·max(1, |x_i|)
+// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls; fx is
+// not needed.
+func minPlateDecreaseDerivative(x *[2]float32, fx float32, g *[2]float32, diffs *minPlateDecreaseDifferences) {
+	probe := *x
+	for i := range probe {
+		xi := probe[i]
+		h := diffs.ratio[i] * minPlateDecreaseLarger(1, minPlateDecreaseAbs(xi))
+		up, _ := minPlateDecreaseProbeStep(xi, h)
+		down, _ := minPlateDecreaseProbeStep(xi, -h)
+		probe[i] = up
+		fUp := Plate(&probe)
+		probe[i] = down
+		fDown := Plate(&probe)
+		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+		probe[i] = xi
+	}
 }
 
 // minPlateDecreaseDirection is steepest descent, d = −∇f(x): the direction of
@@ -346,15 +516,67 @@ func minPlateDecreaseScaledTrial(t, slope, now float32) float32 {
 	return next
 }
 
-// minPlateDecreaseMaxAbs returns the largest |x_i|, the infinity norm.
-func minPlateDecreaseMaxAbs(x *[2]float32) float32 {
-	var m float32
-	for i := range x {
-		if a := minPlateDecreaseAbs(x[i]); a > m || a != a {
-			m = a
-		}
+// minPlateDecreaseGradientError bounds each central difference's error by twice its
+// truncation h²|f”'|/6 plus rounding ε_A/h, with f”' from the last
+// calibration and ε_A at fx (Nocedal & Wright 2006, §8.1; the factor 2 as
+// in forwardError).
+func minPlateDecreaseGradientError(x *[2]float32, fx float32, e *[2]float32, diffs *minPlateDecreaseDifferences) {
+	noise := minPlateDecreaseNoiseLevel(fx)
+	for i := range e {
+		h := diffs.ratio[i] * minPlateDecreaseLarger(1, minPlateDecreaseAbs(x[i]))
+		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
 	}
-	return m
+}
+
+// minPlateDecreaseGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func minPlateDecreaseGradientMeasure(g, e, x *[2]float32, fx float32) (measure, floor float32) {
+	scale := minPlateDecreaseLarger(minPlateDecreaseAbs(fx), 1)
+	for i := range g {
+		w := minPlateDecreaseLarger(minPlateDecreaseAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = minPlateDecreaseLarger(measure, (minPlateDecreaseAbs(g[i])+e[i])*w)
+		floor = minPlateDecreaseLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// minPlateDecreaseConfirmGradient recomputes a difference gradient at x before the run is
+// called converged there: it chooses the intervals again from the
+// curvature at x (calibrate), computes g with them and with twice them,
+// and bounds each component's error by the model (minPlateDecreaseGradientError) plus
+// three times the change the doubling made. That change measures what the
+// model can miss, truncation from curvature that varies and rounding
+// noise above 4u·|f|; as one sample of that noise it is tripled
+// (Richardson's idea of comparing two intervals; the factor is common
+// practice for a posteriori error estimates). It costs a calibration and two
+// gradients, and returns the calls spent and false when budget ran out
+// first.
+func minPlateDecreaseConfirmGradient(x *[2]float32, fx float32, g, e *[2]float32, diffs *minPlateDecreaseDifferences, budget int) (int, bool) {
+	calls, ok := minPlateDecreaseCalibrate(x, fx, diffs, budget)
+	if !ok || calls+2*minPlateDecreaseDerivativeCost > budget {
+		return calls, false
+	}
+	wide := *diffs
+	for i := range wide.ratio {
+		wide.ratio[i] *= 2
+	}
+	var doubled [2]float32
+	minPlateDecreaseDerivative(x, fx, g, diffs)
+	minPlateDecreaseDerivative(x, fx, &doubled, &wide)
+	minPlateDecreaseGradientError(x, fx, e, diffs)
+	for i := range e {
+		e[i] += 3 * minPlateDecreaseAbs(g[i]-doubled[i])
+	}
+	return calls + 2*minPlateDecreaseDerivativeCost, true
 }
 
 // minPlateDecreaseStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
@@ -396,7 +618,7 @@ func minPlateDecreaseTinyStep(x, d *[2]float32, tol float32) float32 {
 // acceptance test holds, taking t ← next trial after each
 // failure, by fixed shrink or by interpolation (Nocedal & Wright 2006,
 // Algorithm 3.1 and §3.5). A non-finite value fails like any trial.
-func minPlateDecreaseLineSearch(x *[2]float32, fx float32, d *[2]float32, slope, first, tiny float32, budget int, xt, gt *[2]float32) minPlateDecreaseLineResult {
+func minPlateDecreaseLineSearch(x *[2]float32, fx float32, d *[2]float32, slope, first, tiny float32, budget int, xt, gt *[2]float32, diffs *minPlateDecreaseDifferences) minPlateDecreaseLineResult {
 	t := first
 	var previous, fPrevious float32
 	var trend minPlateDecreaseRiseTrend
@@ -415,7 +637,7 @@ func minPlateDecreaseLineSearch(x *[2]float32, fx float32, d *[2]float32, slope,
 		trend.add(x, xt, d, t, ft-fx, fx)
 		t, previous, fPrevious = minPlateDecreaseBacktrackTrial(fx, slope, t, ft, previous, fPrevious), t, ft
 	}
-	return minPlateDecreaseLineResult{calls: minPlateDecreaseStepTrials, end: minPlateDecreaseSearchExhausted}
+	return minPlateDecreaseLineResult{calls: minPlateDecreaseStepTrials, rising: trend.contradicts(), end: minPlateDecreaseSearchExhausted}
 }
 
 // minPlateDecreaseLineResult is what a line search reports to the kernel.
@@ -509,6 +731,7 @@ const (
 	minPlateDecreaseSearchExhausted                                    // minPlateDecreaseStepTrials trials met none
 	minPlateDecreaseSearchOutOfBudget                                  // the evaluation cap came first
 	minPlateDecreaseSearchTiny                                         // every step longer than tiny failed to decrease f
+	minPlateDecreaseSearchDiverged                                     // a fixed step's value overflowed
 )
 
 // minPlateDecreaseMoveTo sets out = x + t·d.
@@ -573,11 +796,6 @@ func minPlateDecreaseBacktrackTrial(fx, slope, t, ft, previous, fPrevious float3
 		return high
 	}
 	return next
-}
-
-// minPlateDecreaseSquareRoot returns √v.
-func minPlateDecreaseSquareRoot(v float32) float32 {
-	return float32(math.Sqrt(float64(v)))
 }
 
 // minPlateDecreaseDifference sets out = a − b.

@@ -8,10 +8,10 @@ import "math"
 type MinValleyStatus uint8
 
 const (
-	// MinValleyGradientSmall: the largest gradient component fell to the gradient limit: converged.
+	// MinValleyGradientSmall: the gradient test holds at X: its measure, with the differences' error bound when they are used, is at most the gradient limit: converged.
 	MinValleyGradientSmall MinValleyStatus = iota + 1
-	// MinValleyStepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f: converged.
-	MinValleyStepTiny
+	// MinValleyStalled: the step test ended the run, or no step longer than the step limit decreased f, while the gradient test still fails: X is as far as the run could get, not a verified minimizer.
+	MinValleyStalled
 	// MinValleyOutOfIterations: the iteration limit came first.
 	MinValleyOutOfIterations
 	// MinValleyOutOfEvaluations: the next objective call would have exceeded the evaluation cap.
@@ -22,8 +22,10 @@ const (
 	MinValleyNonFiniteStart
 	// MinValleyNonFiniteGradient: a gradient component became NaN or ±Inf.
 	MinValleyNonFiniteGradient
-	// MinValleyNoDecrease: no step longer than the step limit decreased f, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test).
+	// MinValleyNoDecrease: the line search found no acceptable step, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test).
 	MinValleyNoDecrease
+	// MinValleyDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
+	MinValleyDiverged
 )
 
 // String describes the status in a few words.
@@ -31,8 +33,8 @@ func (s MinValleyStatus) String() string {
 	switch s {
 	case MinValleyGradientSmall:
 		return "gradient small"
-	case MinValleyStepTiny:
-		return "step tiny"
+	case MinValleyStalled:
+		return "stalled"
 	case MinValleyOutOfIterations:
 		return "out of iterations"
 	case MinValleyOutOfEvaluations:
@@ -45,28 +47,32 @@ func (s MinValleyStatus) String() string {
 		return "non-finite gradient"
 	case MinValleyNoDecrease:
 		return "no decrease"
+	case MinValleyDiverged:
+		return "diverged"
 	default:
 		return "unknown status"
 	}
 }
 
-// Converged reports whether a convergence test, on the gradient or on the step, ended the run; limits, line-search failure and non-finite values are not convergence.
+// Converged reports whether the gradient test holds at X (Gradient ≤ GradientLimit in the result): only then is X a verified stationary point; a stall, the limits, line-search failure and non-finite values are not convergence.
 func (s MinValleyStatus) Converged() bool {
-	return s == MinValleyGradientSmall || s == MinValleyStepTiny
+	return s == MinValleyGradientSmall
 }
 
 // MinValleyResult is where MinValley stopped and why.
 type MinValleyResult struct {
-	X           [2]float64      // the last accepted point, the best one found
-	F           float64         // the objective at X
-	Iterations  int             // accepted steps
-	Evaluations int             // objective calls, finite differences included
-	Status      MinValleyStatus // why the run stopped; check Status.Converged()
+	X             [2]float64      // where the gradient test held, when converged; else the lowest point seen
+	F             float64         // the objective at X
+	Gradient      float64         // the gradient test's measure at X, the differences' error bound included; NaN when the run ended before the gradient at X was known
+	GradientLimit float64         // the limit Gradient was held to: Limits.Gradient, raised with differences to ten times the measure of their error bound; converged runs have Gradient ≤ GradientLimit
+	Iterations    int             // accepted steps
+	Evaluations   int             // objective calls, finite differences included
+	Status        MinValleyStatus // why the run stopped; check Status.Converged()
 }
 
 // MinValleyLimits are the stop limits of one run. Pass them to MinValleyWithLimits to change them at run time; MinValleyDefaultLimits returns the spec's.
 type MinValleyLimits struct {
-	Gradient    float64 // stop when the largest |∂f/∂xᵢ| is at most this
+	Gradient    float64 // stop, converged, when the gradient test's measure is at most this (with differences, at most ten times the measure of their error bound where that is larger)
 	Step        float64 // stop when every |Δxᵢ| is at most this·(|xᵢ| + 1)
 	Iterations  int     // most accepted steps
 	Evaluations int     // hard cap on objective calls, finite differences included; never exceeded
@@ -87,10 +93,11 @@ func MinValleyDefaultLimits() MinValleyLimits {
 // Direction lbfgs: limited-memory BFGS: the last `memory` pairs, two-loop recursion (2·memory·dim numbers).
 // Step rule wolfe: bracket and zoom until sufficient decrease and the curvature condition hold.
 // Derivative analytic: the user's own gradient function (spec key `gradient`); costs no objective calls.
+// Gradient test relative: max over i of (|∂f/∂xᵢ| + eᵢ)·max(|xᵢ|, 1)/max(|f(x)|, 1), eᵢ the error bound of differences (0 for an analytic gradient).
 // Constants: initial 1.0, c1 0.0001, c2 0.8, at most 48 trials per line search, memory 3 pairs.
-// Default stop: largest gradient component ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 500 iterations, 10000 objective calls.
+// Default stop: gradient measure ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 500 iterations, 10000 objective calls.
 //
-// Worst case: 10000 objective calls (the evaluation cap; the iteration limit alone would allow 24001). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
+// Worst case: 10000 objective calls (the evaluation cap; the iteration limit alone would allow 24049). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
 func MinValley(recv *Valley, x0 [2]float64) MinValleyResult {
 	return MinValleyWithLimits(recv, x0, MinValleyDefaultLimits())
@@ -100,11 +107,13 @@ func MinValley(recv *Valley, x0 [2]float64) MinValleyResult {
 func MinValleyWithLimits(recv *Valley, x0 [2]float64, limits MinValleyLimits) MinValleyResult {
 	out := minValleyMinimize(recv, x0, limits)
 	return MinValleyResult{
-		Evaluations: out.evaluations,
-		F:           out.f,
-		Iterations:  out.iterations,
-		Status:      out.status,
-		X:           out.x,
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
 	}
 }
 
@@ -122,22 +131,31 @@ const (
 
 // minValleyMinimize runs the descent loop from x0 within lim:
 //
-//  1. stop when the largest gradient component is at most lim.Gradient;
+//  1. stop, converged, when the gradient measure (minValleyGradientMeasure, error
+//     bound of differences included) is at most the limit: lim.Gradient,
+//     or ten times the measure of the differences' error bound when that is
+//     larger, so that the limit can be met (the floor the test can see);
+//     differences confirm it first (minValleyConfirmGradient);
 //  2. stop after lim.Iterations accepted steps;
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
-//  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged,
-//     unless f contradicts an analytic gradient: no decrease);
+//  4. search along d; stop when no trial is acceptable or only steps
+//     shorter than the step limit are left to try: stalled, or no
+//     decrease when f contradicts an analytic gradient (see minValleyRiseTrend);
 //  5. move, refresh the gradient, let the direction learn from the step;
-//  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
+//  6. stop, stalled, when every |Δx_i| is at most lim.Step·(|x_i| + 1) while
+//     the gradient test still fails.
 //
-// Before every objective call it checks that lim.Evaluations leaves room
-// for it, so the cap is never exceeded. A NaN or ±Inf at the start or in a
+// Only step 1 is convergence: the first-order test holds at X. Before
+// every objective call it checks that lim.Evaluations leaves room for it,
+// so the cap is never exceeded. A NaN or ±Inf at the start or in a
 // gradient ends the run with its own status; a non-finite trial value is
-// rejected by the line search like any failed trial.
+// rejected by the line search like any failed trial. X is the best point
+// seen unless the run converged, which it did at X. A fixed step whose
+// value overflows, or that raised f above f(x0) at eight steps in a row,
+// ends the run as diverged (common practice for a divergence test).
 func minValleyMinimize(recv *Valley, x0 [2]float64, lim MinValleyLimits) minValleyOutcome {
-	out := minValleyOutcome{x: x0, status: MinValleyOutOfEvaluations}
+	out := minValleyOutcome{x: x0, status: MinValleyOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
@@ -148,11 +166,14 @@ func minValleyMinimize(recv *Valley, x0 [2]float64, lim MinValleyLimits) minVall
 		out.status = MinValleyNonFiniteStart
 		return out
 	}
-	if out.evaluations+minValleyDerivativeCost > lim.Evaluations {
+	var diffs minValleyDifferences
+	calls, ok := minValleyCalibrate(recv, &x, fx, &diffs, lim.Evaluations-out.evaluations)
+	out.evaluations += calls
+	if !ok || out.evaluations+minValleyDerivativeCost > lim.Evaluations {
 		return out
 	}
-	var g [2]float64
-	minValleyDerivative(recv, &x, fx, &g)
+	var g, e [2]float64
+	minValleyDerivative(recv, &x, fx, &g, &diffs)
 	out.evaluations += minValleyDerivativeCost
 
 	if !minValleyFiniteVec(&g) {
@@ -163,21 +184,47 @@ func minValleyMinimize(recv *Valley, x0 [2]float64, lim MinValleyLimits) minVall
 	dir.reset()
 	var d, xt, gt, s, y [2]float64
 	t, slope := float64(minValleyStepInitial), float64(0) // the previous iteration's accepted step and slope
+	best := out                                           // the lowest point seen, for runs that end unconverged
+	start, rises := fx, 0                                 // f(x0), and consecutive accepted steps that raised f above it
+	confirmed := false                                    // whether g and e at x come from minValleyConfirmGradient
 	for {
-		if minValleyMaxAbs(&g) <= lim.Gradient {
+		if !confirmed {
+			minValleyGradientError(&x, fx, &e, &diffs)
+		}
+		measure, floor := minValleyGradientMeasure(&g, &e, &x, fx)
+		out.gradient, out.gradientLimit = measure, minValleyLarger(lim.Gradient, 10*floor)
+		if out.f <= best.f {
+			best = out
+		}
+		if measure <= out.gradientLimit && (minValleyDerivativeCost == 0 || confirmed) {
 			out.status = MinValleyGradientSmall
 			return out
 		}
+		if measure <= out.gradientLimit {
+			// Differences pass the test: confirm it with intervals chosen
+			// here and an error measured rather than modelled.
+			calls, ok := minValleyConfirmGradient(recv, &x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(MinValleyOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !minValleyFiniteVec(&g) {
+				return best.ending(MinValleyNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			confirmed = true
+			continue
+		}
 		if out.iterations > 0 {
 			if minValleyStepWithin(&s, &x, lim.Step) {
-				out.status = MinValleyStepTiny
-				return out
+				return best.ending(MinValleyStalled, out.iterations, out.evaluations)
+			}
+			if rises >= 8 {
+				return best.ending(MinValleyDiverged, out.iterations, out.evaluations)
 			}
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
-			out.status = MinValleyOutOfIterations
-			return out
+			return best.ending(MinValleyOutOfIterations, out.iterations, out.evaluations)
 		}
 		dir.compute(&g, &d)
 		now := minValleyDot(&g, &d)
@@ -191,50 +238,59 @@ func minValleyMinimize(recv *Valley, x0 [2]float64, lim MinValleyLimits) minVall
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := minValleyTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := minValleyLineSearch(recv, &x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt)
+		found := minValleyLineSearch(recv, &x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case minValleySearchOutOfBudget:
-			return out
-		case minValleySearchExhausted:
-			out.status = MinValleyNoAcceptableStep
-			return out
-		case minValleySearchTiny:
-			// Converged to the step limit: no step the step test would
-			// reject decreases f. Not so when an analytic gradient is
-			// contradicted by f rising in proportion to the step (see
-			// minValleyRiseTrend, which never reports that for differences).
-			out.status = MinValleyStepTiny
-			if found.rising {
-				out.status = MinValleyNoDecrease
+			return best.ending(MinValleyOutOfEvaluations, out.iterations, out.evaluations)
+		case minValleySearchDiverged:
+			return best.ending(MinValleyDiverged, out.iterations, out.evaluations)
+		case minValleySearchExhausted, minValleySearchTiny:
+			// No acceptable step. When an analytic gradient predicted a
+			// fall that f contradicted in proportion to the step, the
+			// gradient is probably wrong (see minValleyRiseTrend, which never
+			// reports that for differences); otherwise the search stalled
+			// below the step limit, or ran out of trials.
+			end := MinValleyNoAcceptableStep
+			switch {
+			case found.rising:
+				end = MinValleyNoDecrease
+			case found.end == minValleySearchTiny:
+				end = MinValleyStalled
 			}
-			return out
+			return best.ending(end, out.iterations, out.evaluations)
 		}
 		if !minValleyFiniteVec(&xt) {
-			out.status = MinValleyNoAcceptableStep // the accepted trial overflowed x
-			return out
+			return best.ending(MinValleyNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
 		}
 		if !found.gradient {
 			if out.evaluations+minValleyDerivativeCost > lim.Evaluations {
-				if found.value < fx { // keep a better point even without its gradient
-					out.x, out.f = xt, found.value
+				if found.value < best.f { // keep a better point even without its gradient
+					best.x, best.f, best.gradient = xt, found.value, math.NaN()
 					out.iterations++
 				}
-				return out
+				return best.ending(MinValleyOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			minValleyDerivative(recv, &xt, found.value, &gt)
+			minValleyDerivative(recv, &xt, found.value, &gt, &diffs)
 			out.evaluations += minValleyDerivativeCost
 		}
 		out.iterations++
 		minValleyDifference(&s, &xt, &x)
 		minValleyDifference(&y, &gt, &g)
-		x, fx, g = xt, found.value, gt
-		out.x, out.f = x, fx
+		if found.value > fx && found.value > start {
+			rises++
+		} else {
+			rises = 0
+		}
+		x, fx, g, confirmed = xt, found.value, gt, false
+		out.x, out.f, out.gradient = x, fx, math.NaN()
 		t, slope = found.step, now
 
 		if !minValleyFiniteVec(&g) {
-			out.status = MinValleyNonFiniteGradient
-			return out
+			if out.f < best.f {
+				best = out
+			}
+			return best.ending(MinValleyNonFiniteGradient, out.iterations, out.evaluations)
 		}
 	}
 }
@@ -242,11 +298,19 @@ func minValleyMinimize(recv *Valley, x0 [2]float64, lim MinValleyLimits) minVall
 // minValleyOutcome is the kernel's report; the generated entry point copies it into
 // the spec's result type.
 type minValleyOutcome struct {
-	x           [2]float64
-	f           float64
-	iterations  int
-	evaluations int
-	status      MinValleyStatus
+	x             [2]float64
+	f             float64
+	gradient      float64 // the stop test's measure at x, error bound included; NaN when not known
+	gradientLimit float64 // the limit that measure was held to
+	iterations    int
+	evaluations   int
+	status        MinValleyStatus
+}
+
+// ending is the best point seen, reported with the run's end and counts.
+func (o minValleyOutcome) ending(end MinValleyStatus, iterations, evaluations int) minValleyOutcome {
+	o.status, o.iterations, o.evaluations = end, iterations, evaluations
+	return o
 }
 
 // minValleyFinite reports whether v is neither NaN nor ±Inf, by comparing it with
@@ -271,8 +335,23 @@ func minValleyFiniteVec(x *[2]float64) bool {
 	return true
 }
 
+// minValleyDifferences is what the difference gradients learn from the objective
+// at the start: for each coordinate i, the interval as a multiple of
+// max(1, |x_i|), and the curvature along e_i it was chosen from (|f”| for
+// forward differences, |f”'| for central ones). The analytic gradient
+// leaves it unused.
+type minValleyDifferences struct {
+	ratio     [2]float64
+	curvature [2]float64
+}
+
+// minValleyCalibrate: an analytic gradient needs no intervals.
+func minValleyCalibrate(recv *Valley, x *[2]float64, fx float64, diffs *minValleyDifferences, budget int) (int, bool) {
+	return 0, true
+}
+
 // minValleyDerivative calls the user's gradient; it costs no objective calls.
-func minValleyDerivative(recv *Valley, x *[2]float64, fx float64, g *[2]float64) {
+func minValleyDerivative(recv *Valley, x *[2]float64, fx float64, g *[2]float64, diffs *minValleyDifferences) {
 	*g = recv.DepthGradient(*x)
 }
 
@@ -391,15 +470,43 @@ func minValleyCurvatureSafe(s, y *[2]float64) bool {
 	return sy > 0 && (sy/minValleyDot(s, s))*(sy/minValleyDot(y, y)) > minValleyUnitRoundoff
 }
 
-// minValleyMaxAbs returns the largest |x_i|, the infinity norm.
-func minValleyMaxAbs(x *[2]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := minValleyAbs(x[i]); a > m || a != a {
-			m = a
-		}
+// minValleyGradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func minValleyGradientError(x *[2]float64, fx float64, e *[2]float64, diffs *minValleyDifferences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return m
+}
+
+// minValleyGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func minValleyGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
+	scale := minValleyLarger(minValleyAbs(fx), 1)
+	for i := range g {
+		w := minValleyLarger(minValleyAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = minValleyLarger(measure, (minValleyAbs(g[i])+e[i])*w)
+		floor = minValleyLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// minValleyLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func minValleyLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
 }
 
 // minValleyAbs returns |v|.
@@ -408,6 +515,36 @@ func minValleyAbs(v float64) float64 {
 		return -v
 	}
 	return v
+}
+
+// minValleyConfirmGradient recomputes a difference gradient at x before the run is
+// called converged there: it chooses the intervals again from the
+// curvature at x (calibrate), computes g with them and with twice them,
+// and bounds each component's error by the model (minValleyGradientError) plus
+// three times the change the doubling made. That change measures what the
+// model can miss, truncation from curvature that varies and rounding
+// noise above 4u·|f|; as one sample of that noise it is tripled
+// (Richardson's idea of comparing two intervals; the factor is common
+// practice for a posteriori error estimates). It costs a calibration and two
+// gradients, and returns the calls spent and false when budget ran out
+// first.
+func minValleyConfirmGradient(recv *Valley, x *[2]float64, fx float64, g, e *[2]float64, diffs *minValleyDifferences, budget int) (int, bool) {
+	calls, ok := minValleyCalibrate(recv, x, fx, diffs, budget)
+	if !ok || calls+2*minValleyDerivativeCost > budget {
+		return calls, false
+	}
+	wide := *diffs
+	for i := range wide.ratio {
+		wide.ratio[i] *= 2
+	}
+	var doubled [2]float64
+	minValleyDerivative(recv, x, fx, g, diffs)
+	minValleyDerivative(recv, x, fx, &doubled, &wide)
+	minValleyGradientError(x, fx, e, diffs)
+	for i := range e {
+		e[i] += 3 * minValleyAbs(g[i]-doubled[i])
+	}
+	return calls + 2*minValleyDerivativeCost, true
 }
 
 // minValleyStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
@@ -458,7 +595,7 @@ func minValleyTinyStep(x, d *[2]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func minValleyLineSearch(recv *Valley, x *[2]float64, fx float64, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64) minValleyLineResult {
+func minValleyLineSearch(recv *Valley, x *[2]float64, fx float64, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *minValleyDifferences) minValleyLineResult {
 	low := minValleyLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high minValleyLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                         // ∇f at low, kept for accepting low from a collapsed bracket
@@ -490,7 +627,7 @@ func minValleyLineSearch(recv *Valley, x *[2]float64, fx float64, d *[2]float64,
 			if calls+minValleyDerivativeCost > budget {
 				return minValleyLineResult{calls: calls, end: minValleySearchOutOfBudget}
 			}
-			minValleyDerivative(recv, xt, current.value, gt)
+			minValleyDerivative(recv, xt, current.value, gt, diffs)
 			calls += minValleyDerivativeCost
 			current.slope, current.hasSlope = minValleyDot(gt, d), true
 			switch {
@@ -515,7 +652,7 @@ func minValleyLineSearch(recv *Valley, x *[2]float64, fx float64, d *[2]float64,
 	if low.step > 0 {
 		return minValleyAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
 	}
-	return minValleyLineResult{calls: calls, end: minValleySearchExhausted}
+	return minValleyLineResult{calls: calls, rising: trend.contradicts(), end: minValleySearchExhausted}
 }
 
 // minValleyLineResult is what a line search reports to the kernel.
@@ -616,6 +753,7 @@ const (
 	minValleySearchExhausted                             // minValleyStepTrials trials met none
 	minValleySearchOutOfBudget                           // the evaluation cap came first
 	minValleySearchTiny                                  // every step longer than tiny failed to decrease f
+	minValleySearchDiverged                              // a fixed step's value overflowed
 )
 
 // minValleyAcceptLow ends a Wolfe search with its best trial, which met sufficient

@@ -2,14 +2,16 @@
 
 package shapes
 
+import "math"
+
 // MinPlateStatus tells why MinPlate stopped. Only the statuses for which Converged is true say that X is a minimizer to the spec's tolerances; check it before acting on a result.
 type MinPlateStatus uint8
 
 const (
-	// MinPlateGradientSmall: the largest gradient component fell to the gradient limit: converged.
+	// MinPlateGradientSmall: the gradient test holds at X: its measure, with the differences' error bound when they are used, is at most the gradient limit: converged.
 	MinPlateGradientSmall MinPlateStatus = iota + 1
-	// MinPlateStepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f: converged.
-	MinPlateStepTiny
+	// MinPlateStalled: the step test ended the run, or no step longer than the step limit decreased f, while the gradient test still fails: X is as far as the run could get, not a verified minimizer.
+	MinPlateStalled
 	// MinPlateOutOfIterations: the iteration limit came first.
 	MinPlateOutOfIterations
 	// MinPlateOutOfEvaluations: the next objective call would have exceeded the evaluation cap.
@@ -20,8 +22,10 @@ const (
 	MinPlateNonFiniteStart
 	// MinPlateNonFiniteGradient: a gradient component became NaN or ±Inf.
 	MinPlateNonFiniteGradient
-	// MinPlateNoDecrease: no step longer than the step limit decreased f, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test).
+	// MinPlateNoDecrease: the line search found no acceptable step, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test).
 	MinPlateNoDecrease
+	// MinPlateDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
+	MinPlateDiverged
 )
 
 // String describes the status in a few words.
@@ -29,8 +33,8 @@ func (s MinPlateStatus) String() string {
 	switch s {
 	case MinPlateGradientSmall:
 		return "gradient small"
-	case MinPlateStepTiny:
-		return "step tiny"
+	case MinPlateStalled:
+		return "stalled"
 	case MinPlateOutOfIterations:
 		return "out of iterations"
 	case MinPlateOutOfEvaluations:
@@ -43,28 +47,32 @@ func (s MinPlateStatus) String() string {
 		return "non-finite gradient"
 	case MinPlateNoDecrease:
 		return "no decrease"
+	case MinPlateDiverged:
+		return "diverged"
 	default:
 		return "unknown status"
 	}
 }
 
-// Converged reports whether a convergence test, on the gradient or on the step, ended the run; limits, line-search failure and non-finite values are not convergence.
+// Converged reports whether the gradient test holds at X (Gradient ≤ GradientLimit in the result): only then is X a verified stationary point; a stall, the limits, line-search failure and non-finite values are not convergence.
 func (s MinPlateStatus) Converged() bool {
-	return s == MinPlateGradientSmall || s == MinPlateStepTiny
+	return s == MinPlateGradientSmall
 }
 
 // MinPlateResult is where MinPlate stopped and why.
 type MinPlateResult struct {
-	X           [2]float32     // the last accepted point, the best one found
-	F           float32        // the objective at X
-	Iterations  int            // accepted steps
-	Evaluations int            // objective calls, finite differences included
-	Status      MinPlateStatus // why the run stopped; check Status.Converged()
+	X             [2]float32     // where the gradient test held, when converged; else the lowest point seen
+	F             float32        // the objective at X
+	Gradient      float32        // the gradient test's measure at X, the differences' error bound included; NaN when the run ended before the gradient at X was known
+	GradientLimit float32        // the limit Gradient was held to: Limits.Gradient, raised with differences to ten times the measure of their error bound; converged runs have Gradient ≤ GradientLimit
+	Iterations    int            // accepted steps
+	Evaluations   int            // objective calls, finite differences included
+	Status        MinPlateStatus // why the run stopped; check Status.Converged()
 }
 
 // MinPlateLimits are the stop limits of one run. Pass them to MinPlateWithLimits to change them at run time; MinPlateDefaultLimits returns the spec's.
 type MinPlateLimits struct {
-	Gradient    float32 // stop when the largest |∂f/∂xᵢ| is at most this
+	Gradient    float32 // stop, converged, when the gradient test's measure is at most this (with differences, at most ten times the measure of their error bound where that is larger)
 	Step        float32 // stop when every |Δxᵢ| is at most this·(|xᵢ| + 1)
 	Iterations  int     // most accepted steps
 	Evaluations int     // hard cap on objective calls, finite differences included; never exceeded
@@ -85,10 +93,11 @@ func MinPlateDefaultLimits() MinPlateLimits {
 // Direction steepest: steepest descent, d = −∇f; no memory, linear convergence.
 // Step rule fixed: always step by `initial`; the hand-written gradient loop, made bounded and NaN-safe.
 // Derivative analytic: the user's own gradient function (spec key `gradient`); costs no objective calls.
+// Gradient test relative: max over i of (|∂f/∂xᵢ| + eᵢ)·max(|xᵢ|, 1)/max(|f(x)|, 1), eᵢ the error bound of differences (0 for an analytic gradient).
 // Constants: initial 0.2.
-// Default stop: largest gradient component ≤ 0.0001, every |Δxᵢ| ≤ 1e-06·(|xᵢ| + 1), 500 iterations, 10000 objective calls.
+// Default stop: gradient measure ≤ 0.0001, every |Δxᵢ| ≤ 1e-06·(|xᵢ| + 1), 500 iterations, 10000 objective calls.
 //
-// Worst case: 501 objective calls (the bound the iteration limit sets, below the evaluation cap of 10000). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
+// Worst case: 502 objective calls (the bound the iteration limit sets, below the evaluation cap of 10000). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
 func MinPlate(x0 [2]float32) MinPlateResult {
 	return MinPlateWithLimits(x0, MinPlateDefaultLimits())
@@ -98,11 +107,13 @@ func MinPlate(x0 [2]float32) MinPlateResult {
 func MinPlateWithLimits(x0 [2]float32, limits MinPlateLimits) MinPlateResult {
 	out := minPlateMinimize(x0, limits)
 	return MinPlateResult{
-		Evaluations: out.evaluations,
-		F:           out.f,
-		Iterations:  out.iterations,
-		Status:      out.status,
-		X:           out.x,
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
 	}
 }
 
@@ -115,22 +126,31 @@ const (
 
 // minPlateMinimize runs the descent loop from x0 within lim:
 //
-//  1. stop when the largest gradient component is at most lim.Gradient;
+//  1. stop, converged, when the gradient measure (minPlateGradientMeasure, error
+//     bound of differences included) is at most the limit: lim.Gradient,
+//     or ten times the measure of the differences' error bound when that is
+//     larger, so that the limit can be met (the floor the test can see);
+//     differences confirm it first (minPlateConfirmGradient);
 //  2. stop after lim.Iterations accepted steps;
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
-//  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged,
-//     unless f contradicts an analytic gradient: no decrease);
+//  4. search along d; stop when no trial is acceptable or only steps
+//     shorter than the step limit are left to try: stalled, or no
+//     decrease when f contradicts an analytic gradient (see riseTrend);
 //  5. move, refresh the gradient, let the direction learn from the step;
-//  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
+//  6. stop, stalled, when every |Δx_i| is at most lim.Step·(|x_i| + 1) while
+//     the gradient test still fails.
 //
-// Before every objective call it checks that lim.Evaluations leaves room
-// for it, so the cap is never exceeded. A NaN or ±Inf at the start or in a
+// Only step 1 is convergence: the first-order test holds at X. Before
+// every objective call it checks that lim.Evaluations leaves room for it,
+// so the cap is never exceeded. A NaN or ±Inf at the start or in a
 // gradient ends the run with its own status; a non-finite trial value is
-// rejected by the line search like any failed trial.
+// rejected by the line search like any failed trial. X is the best point
+// seen unless the run converged, which it did at X. A fixed step whose
+// value overflows, or that raised f above f(x0) at eight steps in a row,
+// ends the run as diverged (common practice for a divergence test).
 func minPlateMinimize(x0 [2]float32, lim MinPlateLimits) minPlateOutcome {
-	out := minPlateOutcome{x: x0, status: MinPlateOutOfEvaluations}
+	out := minPlateOutcome{x: x0, status: MinPlateOutOfEvaluations, gradient: float32(math.NaN())}
 	if lim.Evaluations < 1 {
 		return out
 	}
@@ -141,11 +161,14 @@ func minPlateMinimize(x0 [2]float32, lim MinPlateLimits) minPlateOutcome {
 		out.status = MinPlateNonFiniteStart
 		return out
 	}
-	if out.evaluations+minPlateDerivativeCost > lim.Evaluations {
+	var diffs minPlateDifferences
+	calls, ok := minPlateCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
+	out.evaluations += calls
+	if !ok || out.evaluations+minPlateDerivativeCost > lim.Evaluations {
 		return out
 	}
-	var g [2]float32
-	minPlateDerivative(&x, fx, &g)
+	var g, e [2]float32
+	minPlateDerivative(&x, fx, &g, &diffs)
 	out.evaluations += minPlateDerivativeCost
 
 	if !minPlateFiniteVec(&g) {
@@ -156,21 +179,47 @@ func minPlateMinimize(x0 [2]float32, lim MinPlateLimits) minPlateOutcome {
 	dir.reset()
 	var d, xt, gt, s, y [2]float32
 	t, slope := float32(minPlateStepInitial), float32(0) // the previous iteration's accepted step and slope
+	best := out                                          // the lowest point seen, for runs that end unconverged
+	start, rises := fx, 0                                // f(x0), and consecutive accepted steps that raised f above it
+	confirmed := false                                   // whether g and e at x come from minPlateConfirmGradient
 	for {
-		if minPlateMaxAbs(&g) <= lim.Gradient {
+		if !confirmed {
+			minPlateGradientError(&x, fx, &e, &diffs)
+		}
+		measure, floor := minPlateGradientMeasure(&g, &e, &x, fx)
+		out.gradient, out.gradientLimit = measure, minPlateLarger(lim.Gradient, 10*floor)
+		if out.f <= best.f {
+			best = out
+		}
+		if measure <= out.gradientLimit && (minPlateDerivativeCost == 0 || confirmed) {
 			out.status = MinPlateGradientSmall
 			return out
 		}
+		if measure <= out.gradientLimit {
+			// Differences pass the test: confirm it with intervals chosen
+			// here and an error measured rather than modelled.
+			calls, ok := minPlateConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(MinPlateOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !minPlateFiniteVec(&g) {
+				return best.ending(MinPlateNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			confirmed = true
+			continue
+		}
 		if out.iterations > 0 {
 			if minPlateStepWithin(&s, &x, lim.Step) {
-				out.status = MinPlateStepTiny
-				return out
+				return best.ending(MinPlateStalled, out.iterations, out.evaluations)
+			}
+			if rises >= 8 {
+				return best.ending(MinPlateDiverged, out.iterations, out.evaluations)
 			}
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
-			out.status = MinPlateOutOfIterations
-			return out
+			return best.ending(MinPlateOutOfIterations, out.iterations, out.evaluations)
 		}
 		dir.compute(&g, &d)
 		now := minPlateDot(&g, &d)
@@ -184,50 +233,59 @@ func minPlateMinimize(x0 [2]float32, lim MinPlateLimits) minPlateOutcome {
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := minPlateTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := minPlateLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt)
+		found := minPlateLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case minPlateSearchOutOfBudget:
-			return out
-		case minPlateSearchExhausted:
-			out.status = MinPlateNoAcceptableStep
-			return out
-		case minPlateSearchTiny:
-			// Converged to the step limit: no step the step test would
-			// reject decreases f. Not so when an analytic gradient is
-			// contradicted by f rising in proportion to the step (see
-			// riseTrend, which never reports that for differences).
-			out.status = MinPlateStepTiny
-			if found.rising {
-				out.status = MinPlateNoDecrease
+			return best.ending(MinPlateOutOfEvaluations, out.iterations, out.evaluations)
+		case minPlateSearchDiverged:
+			return best.ending(MinPlateDiverged, out.iterations, out.evaluations)
+		case minPlateSearchExhausted, minPlateSearchTiny:
+			// No acceptable step. When an analytic gradient predicted a
+			// fall that f contradicted in proportion to the step, the
+			// gradient is probably wrong (see riseTrend, which never
+			// reports that for differences); otherwise the search stalled
+			// below the step limit, or ran out of trials.
+			end := MinPlateNoAcceptableStep
+			switch {
+			case found.rising:
+				end = MinPlateNoDecrease
+			case found.end == minPlateSearchTiny:
+				end = MinPlateStalled
 			}
-			return out
+			return best.ending(end, out.iterations, out.evaluations)
 		}
 		if !minPlateFiniteVec(&xt) {
-			out.status = MinPlateNoAcceptableStep // the accepted trial overflowed x
-			return out
+			return best.ending(MinPlateNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
 		}
 		if !found.gradient {
 			if out.evaluations+minPlateDerivativeCost > lim.Evaluations {
-				if found.value < fx { // keep a better point even without its gradient
-					out.x, out.f = xt, found.value
+				if found.value < best.f { // keep a better point even without its gradient
+					best.x, best.f, best.gradient = xt, found.value, float32(math.NaN())
 					out.iterations++
 				}
-				return out
+				return best.ending(MinPlateOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			minPlateDerivative(&xt, found.value, &gt)
+			minPlateDerivative(&xt, found.value, &gt, &diffs)
 			out.evaluations += minPlateDerivativeCost
 		}
 		out.iterations++
 		minPlateDifference(&s, &xt, &x)
 		minPlateDifference(&y, &gt, &g)
-		x, fx, g = xt, found.value, gt
-		out.x, out.f = x, fx
+		if found.value > fx && found.value > start {
+			rises++
+		} else {
+			rises = 0
+		}
+		x, fx, g, confirmed = xt, found.value, gt, false
+		out.x, out.f, out.gradient = x, fx, float32(math.NaN())
 		t, slope = found.step, now
 
 		if !minPlateFiniteVec(&g) {
-			out.status = MinPlateNonFiniteGradient
-			return out
+			if out.f < best.f {
+				best = out
+			}
+			return best.ending(MinPlateNonFiniteGradient, out.iterations, out.evaluations)
 		}
 	}
 }
@@ -235,11 +293,19 @@ func minPlateMinimize(x0 [2]float32, lim MinPlateLimits) minPlateOutcome {
 // minPlateOutcome is the kernel's report; the generated entry point copies it into
 // the spec's result type.
 type minPlateOutcome struct {
-	x           [2]float32
-	f           float32
-	iterations  int
-	evaluations int
-	status      MinPlateStatus
+	x             [2]float32
+	f             float32
+	gradient      float32 // the stop test's measure at x, error bound included; NaN when not known
+	gradientLimit float32 // the limit that measure was held to
+	iterations    int
+	evaluations   int
+	status        MinPlateStatus
+}
+
+// ending is the best point seen, reported with the run's end and counts.
+func (o minPlateOutcome) ending(end MinPlateStatus, iterations, evaluations int) minPlateOutcome {
+	o.status, o.iterations, o.evaluations = end, iterations, evaluations
+	return o
 }
 
 // minPlateFinite reports whether v is neither NaN nor ±Inf, by comparing it with
@@ -264,8 +330,23 @@ func minPlateFiniteVec(x *[2]float32) bool {
 	return true
 }
 
+// minPlateDifferences is what the difference gradients learn from the objective
+// at the start: for each coordinate i, the interval as a multiple of
+// max(1, |x_i|), and the curvature along e_i it was chosen from (|f”| for
+// forward differences, |f”'| for central ones). The analytic gradient
+// leaves it unused.
+type minPlateDifferences struct {
+	ratio     [2]float32
+	curvature [2]float32
+}
+
+// minPlateCalibrate: an analytic gradient needs no intervals.
+func minPlateCalibrate(x *[2]float32, fx float32, diffs *minPlateDifferences, budget int) (int, bool) {
+	return 0, true
+}
+
 // minPlateDerivative calls the user's gradient; it costs no objective calls.
-func minPlateDerivative(x *[2]float32, fx float32, g *[2]float32) {
+func minPlateDerivative(x *[2]float32, fx float32, g *[2]float32, diffs *minPlateDifferences) {
 	PlateGradient(x, g)
 }
 
@@ -305,15 +386,43 @@ func minPlateScaledTrial(t, slope, now float32) float32 {
 	return next
 }
 
-// minPlateMaxAbs returns the largest |x_i|, the infinity norm.
-func minPlateMaxAbs(x *[2]float32) float32 {
-	var m float32
-	for i := range x {
-		if a := minPlateAbs(x[i]); a > m || a != a {
-			m = a
-		}
+// minPlateGradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func minPlateGradientError(x *[2]float32, fx float32, e *[2]float32, diffs *minPlateDifferences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return m
+}
+
+// minPlateGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func minPlateGradientMeasure(g, e, x *[2]float32, fx float32) (measure, floor float32) {
+	scale := minPlateLarger(minPlateAbs(fx), 1)
+	for i := range g {
+		w := minPlateLarger(minPlateAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = minPlateLarger(measure, (minPlateAbs(g[i])+e[i])*w)
+		floor = minPlateLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// minPlateLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func minPlateLarger(a, b float32) float32 {
+	if a > b || a != a {
+		return a
+	}
+	return b
 }
 
 // minPlateAbs returns |v|.
@@ -322,6 +431,36 @@ func minPlateAbs(v float32) float32 {
 		return -v
 	}
 	return v
+}
+
+// minPlateConfirmGradient recomputes a difference gradient at x before the run is
+// called converged there: it chooses the intervals again from the
+// curvature at x (calibrate), computes g with them and with twice them,
+// and bounds each component's error by the model (minPlateGradientError) plus
+// three times the change the doubling made. That change measures what the
+// model can miss, truncation from curvature that varies and rounding
+// noise above 4u·|f|; as one sample of that noise it is tripled
+// (Richardson's idea of comparing two intervals; the factor is common
+// practice for a posteriori error estimates). It costs a calibration and two
+// gradients, and returns the calls spent and false when budget ran out
+// first.
+func minPlateConfirmGradient(x *[2]float32, fx float32, g, e *[2]float32, diffs *minPlateDifferences, budget int) (int, bool) {
+	calls, ok := minPlateCalibrate(x, fx, diffs, budget)
+	if !ok || calls+2*minPlateDerivativeCost > budget {
+		return calls, false
+	}
+	wide := *diffs
+	for i := range wide.ratio {
+		wide.ratio[i] *= 2
+	}
+	var doubled [2]float32
+	minPlateDerivative(x, fx, g, diffs)
+	minPlateDerivative(x, fx, &doubled, &wide)
+	minPlateGradientError(x, fx, e, diffs)
+	for i := range e {
+		e[i] += 3 * minPlateAbs(g[i]-doubled[i])
+	}
+	return calls + 2*minPlateDerivativeCost, true
 }
 
 // minPlateStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
@@ -360,18 +499,18 @@ func minPlateTinyStep(x, d *[2]float32, tol float32) float32 {
 }
 
 // minPlateLineSearch always takes the step minPlateStepInitial, whatever it does to f; only
-// a non-finite value at the new point is refused. It is the plain gradient
+// a non-finite value at the new point ends the run as diverged. It is the plain gradient
 // loop with a hand-picked step. On a quadratic with Hessian A, steepest
 // descent with step t maps the error e to (I − tA)e, so it converges only
 // when t < 2/λ_max(A) and otherwise oscillates or diverges (closed form).
-func minPlateLineSearch(x *[2]float32, fx float32, d *[2]float32, slope, first, tiny float32, budget int, xt, gt *[2]float32) minPlateLineResult {
+func minPlateLineSearch(x *[2]float32, fx float32, d *[2]float32, slope, first, tiny float32, budget int, xt, gt *[2]float32, diffs *minPlateDifferences) minPlateLineResult {
 	if budget < 1 {
 		return minPlateLineResult{end: minPlateSearchOutOfBudget}
 	}
 	minPlateMoveTo(xt, x, minPlateStepInitial, d)
 	ft := Plate(xt)
 	if !minPlateFinite(ft) {
-		return minPlateLineResult{calls: 1, end: minPlateSearchExhausted}
+		return minPlateLineResult{calls: 1, end: minPlateSearchDiverged}
 	}
 	return minPlateLineResult{step: minPlateStepInitial, value: ft, calls: 1, end: minPlateSearchAccepted}
 }
@@ -394,6 +533,7 @@ const (
 	minPlateSearchExhausted                            // stepTrials trials met none
 	minPlateSearchOutOfBudget                          // the evaluation cap came first
 	minPlateSearchTiny                                 // every step longer than tiny failed to decrease f
+	minPlateSearchDiverged                             // a fixed step's value overflowed
 )
 
 // minPlateMoveTo sets out = x + t·d.
