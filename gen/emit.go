@@ -202,13 +202,13 @@ func emitEntry(f *jen.File, p *Plan, kernel string) {
 	f.Func().Id(name+"WithLimits").Params(append(params, jen.Id("limits").Id(name+"Limits"))...).Id(name+"Result").Block(
 		jen.Id("out").Op(":=").Id(kernel).Call(kernelArgs...),
 		jen.Return(jen.Id(name+"Result").Values(jen.Dict{
-			jen.Id("X"):           x,
+			jen.Id("X"):             x,
 			jen.Id("F"):             jen.Id("out").Dot("f"),
 			jen.Id("Gradient"):      jen.Id("out").Dot("gradient"),
 			jen.Id("GradientLimit"): jen.Id("out").Dot("gradientLimit"),
-			jen.Id("Iterations"):  jen.Id("out").Dot("iterations"),
-			jen.Id("Evaluations"): jen.Id("out").Dot("evaluations"),
-			jen.Id("Status"):      jen.Id("out").Dot("status"),
+			jen.Id("Iterations"):    jen.Id("out").Dot("iterations"),
+			jen.Id("Evaluations"):   jen.Id("out").Dot("evaluations"),
+			jen.Id("Status"):        jen.Id("out").Dot("status"),
 		})),
 	)
 }

@@ -4,8 +4,8 @@ import "math"
 
 // differences is what the difference gradients learn from the objective
 // at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f''| for
-// forward differences, |f'''| for central ones). The analytic gradient
+// max(1, |x_i|), and the curvature along e_i it was chosen from (|f”| for
+// forward differences, |f”'| for central ones). The analytic gradient
 // leaves it unused.
 type differences struct {
 	ratio     vec
@@ -95,7 +95,6 @@ func probeStep(xi, h elem) (elem, elem) {
 	return moved, moved - xi
 }
 
-
 // calibrateForward chooses each forward-difference interval from the
 // second derivative along e_i, estimated at x with two probes at
 // ±h̄, h̄ = ∛u·s, s = max(1, |x_i|):
@@ -103,9 +102,9 @@ func probeStep(xi, h elem) (elem, elem) {
 //	f''  ≈ (f(x + h̄eᵢ) − 2f(x) + f(x − h̄eᵢ)) / h̄²,
 //	h_i  = 2·√(ε_A / |f''|)
 //
-// the interval that balances the truncation error h|f''|/2 against the
+// the interval that balances the truncation error h|f”|/2 against the
 // rounding error 2ε_A/h (Gill, Murray, Saunders & Wright 1983, §2; Nocedal
-// & Wright 2006, §8.1). An estimate of f'' below its own rounding noise
+// & Wright 2006, §8.1). An estimate of f” below its own rounding noise
 // 4ε_A/h̄² is replaced by that noise, and h_i is kept within [√u·s, h̄],
 // so that it neither vanishes in rounding nor leaves the local model. It
 // costs two objective calls per unknown.
@@ -159,7 +158,7 @@ func calibrateForward(recv *receiver, x *vec, fx elem, diffs *differences, budge
 //	f''' ≈ (f(x + 2h̄eᵢ) − 2f(x + h̄eᵢ) + 2f(x − h̄eᵢ) − f(x − 2h̄eᵢ)) / (2h̄³),
 //	h_i  = ∛(3ε_A / |f'''|)
 //
-// the interval that minimizes the truncation error h²|f'''|/6 plus the
+// the interval that minimizes the truncation error h²|f”'|/6 plus the
 // rounding error ε_A/h of a central difference (Nocedal & Wright 2006,
 // §8.1, with the third-derivative estimate of the forward interval's
 // procedure of Gill, Murray, Saunders & Wright 1983 carried one order
@@ -223,9 +222,9 @@ func forwardDifference(recv *receiver, x *vec, fx elem, g *vec, diffs *differenc
 }
 
 // forwardError bounds each forward difference's error by twice its
-// truncation h|f''|/2 plus rounding 2ε_A/h, with f'' from the last
+// truncation h|f”|/2 plus rounding 2ε_A/h, with f” from the last
 // calibration and ε_A at fx (Nocedal & Wright 2006, §8.1; the factor 2
-// allows for f'' changing within the interval and since the calibration,
+// allows for f” changing within the interval and since the calibration,
 // common practice).
 func forwardError(x *vec, fx elem, e *vec, diffs *differences) {
 	noise := noiseLevel(fx)
@@ -259,7 +258,7 @@ func centralDifference(recv *receiver, x *vec, fx elem, g *vec, diffs *differenc
 }
 
 // centralError bounds each central difference's error by twice its
-// truncation h²|f'''|/6 plus rounding ε_A/h, with f''' from the last
+// truncation h²|f”'|/6 plus rounding ε_A/h, with f”' from the last
 // calibration and ε_A at fx (Nocedal & Wright 2006, §8.1; the factor 2 as
 // in forwardError).
 func centralError(x *vec, fx elem, e *vec, diffs *differences) {
