@@ -423,8 +423,19 @@ func e2eModule() map[string]string {
 		{"Ptr64", "float64", "v *Ptr64", "pointer", "64"},
 		{"Val32", "float32", "v Val32", "value", "32"},
 		{"Ptr32", "float32", "v *Ptr32", "pointer", "32"},
+		// Receivers without fields, whose zero value is all there is:
+		// the only ones thalweg lets the tests use without an instance.
+		{"Bare64", "float64", "v Bare64", "value", "64"},
+		{"BareP64", "float64", "v *BareP64", "pointer", "64"},
+		{"Bare32", "float32", "v Bare32", "value", "32"},
+		{"BareP32", "float32", "v *BareP32", "pointer", "32"},
 	} {
-		recv.WriteString(strings.NewReplacer("$N", r.typ, "$T", r.elem, "$R", r.recv, "$K", r.kind, "$B", r.base).Replace(e2eRecvMethods))
+		decl, target := "struct{ A [4]$T }", "base$B[i] + v.A[i]"
+		if strings.HasPrefix(r.typ, "Bare") {
+			decl, target = "struct{}", "base$B[i]"
+		}
+		methods := strings.NewReplacer("$DECL", decl, "$TARGET", target).Replace(e2eRecvMethods)
+		recv.WriteString(strings.NewReplacer("$N", r.typ, "$T", r.elem, "$R", r.recv, "$K", r.kind, "$B", r.base).Replace(methods))
 	}
 	files["methods/recv/recv.go"] = recv.String()
 	return files
@@ -1022,10 +1033,11 @@ func NewPtr32Value() Ptr32 { return Ptr32{A: [4]float32{1, 1, 1, 1}} }
 // is a convex quadratic in d = x − t with a positive definite Hessian, so
 // t is its unique minimizer (Nocedal & Wright 2006, Theorem 2.4).
 const e2eRecvMethods = `
-// $N has $K-receiver methods; its objectives have their minimum at base + A.
-type $N struct{ A [4]$T }
+// $N has $K-receiver methods; its objectives have their minimum at its
+// target, base + A (base alone for the types without fields).
+type $N $DECL
 
-func ($R) target(i int) $T { return base$B[i] + v.A[i] }
+func ($R) target(i int) $T { return $TARGET }
 
 // Scalar is 2(x − t₀)², minimum at t₀.
 func ($R) Scalar(x $T) $T {
@@ -1096,7 +1108,7 @@ package = "./recv"
 
 [[minimizer]]
 name = "V64Scalar"
-objective = "Val64.Scalar"
+objective = "Bare64.Scalar"
 derivative = "analytic"
 gradient = "ScalarGrad"
 direction = "steepest"
@@ -1155,7 +1167,7 @@ tolerance = 1e-5
 
 [[minimizer]]
 name = "P64Scalar"
-objective = "Ptr64.Scalar"
+objective = "BareP64.Scalar"
 derivative = "central"
 direction = "lbfgs"
 start = -2.0
@@ -1222,7 +1234,7 @@ tolerance = 1e-3
 
 [[minimizer]]
 name = "V32Array"
-objective = "Val32.Array"
+objective = "Bare32.Array"
 derivative = "analytic"
 gradient = "ArrayGrad"
 direction = "lbfgs"
@@ -1291,7 +1303,7 @@ tolerance = 1e-3
 
 [[minimizer]]
 name = "P32Pointer"
-objective = "Ptr32.Pointer"
+objective = "BareP32.Pointer"
 derivative = "analytic"
 gradient = "PointerGrad"
 direction = "lbfgs"

@@ -4,8 +4,8 @@ import "math"
 
 // differences is what the difference gradients learn from the objective
 // at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f”| for
-// forward differences, |f”'| for central ones). The analytic gradient
+// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
+// forward differences, |f‴| for central ones). The analytic gradient
 // leaves it unused.
 type differences struct {
 	ratio     vec
@@ -42,16 +42,16 @@ func calibrate(recv *receiver, x *vec, fx elem, diffs *differences, budget int) 
 }
 
 // gradientError fills e with a bound on the error of each component of
-// the gradient at x, where fx = f(x). It stands in for the source the spec
+// the gradient g at x, where fx = f(x). It stands in for the source the spec
 // chose; gen keeps only that one under this name.
-func gradientError(x *vec, fx elem, e *vec, diffs *differences) {
+func gradientError(x *vec, fx elem, g, e *vec, diffs *differences) {
 	switch derivativeSource {
 	case sourceForward:
-		forwardError(x, fx, e, diffs)
+		forwardError(x, fx, g, e, diffs)
 	case sourceCentral:
-		centralError(x, fx, e, diffs)
+		centralError(x, fx, g, e, diffs)
 	default:
-		exactGradient(x, fx, e, diffs)
+		exactGradient(x, fx, g, e, diffs)
 	}
 }
 
@@ -67,17 +67,29 @@ func calibrateNothing(recv *receiver, x *vec, fx elem, diffs *differences, budge
 
 // exactGradient: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
-func exactGradient(x *vec, fx elem, e *vec, diffs *differences) {
+func exactGradient(x *vec, fx elem, g, e *vec, diffs *differences) {
 	for i := range e {
 		e[i] = 0
 	}
 }
 
 // noiseLevel is the absolute error assumed in a computed value fx of the
-// objective, ε_A = 4u·|fx|: a few roundings of the result (common
-// practice; Gill, Murray, Saunders & Wright 1983 leave ε_A to the user).
-func noiseLevel(fx elem) elem {
-	return 4 * unitRoundoff * abs(fx)
+// objective at x, where its gradient is about g:
+//
+//	ε_A = 4u·(|fx| + Σᵢ |gᵢ·xᵢ|),
+//
+// a few roundings of the result plus the change that rounding each xᵢ by
+// a relative u makes in f, which is what an objective computed with
+// cancellation inside (y − x² in Rosenbrock's valley) shows near a zero
+// minimum, where u·|f| alone vanishes (the first-order error of
+// evaluating f at a rounded x; the factor 4 is common practice; Gill,
+// Murray, Saunders & Wright 1983 leave ε_A to the user).
+func noiseLevel(x *vec, fx elem, g *vec) elem {
+	sum := abs(fx)
+	for i := range x {
+		sum += abs(g[i] * x[i])
+	}
+	return 4 * unitRoundoff * sum
 }
 
 // magnitude is |v| for a finite v and 0 otherwise: a probe that fell
@@ -99,15 +111,16 @@ func probeStep(xi, h elem) (elem, elem) {
 // second derivative along e_i, estimated at x with two probes at
 // ±h̄, h̄ = ∛u·s, s = max(1, |x_i|):
 //
-//	f''  ≈ (f(x + h̄eᵢ) − 2f(x) + f(x − h̄eᵢ)) / h̄²,
-//	h_i  = 2·√(ε_A / |f''|)
+//	f″  ≈ (f(x + h̄eᵢ) − 2f(x) + f(x − h̄eᵢ)) / h̄²,
+//	h_i  = 2·√(ε_A / |f″|)
 //
-// the interval that balances the truncation error h|f”|/2 against the
+// the interval that balances the truncation error h|f″|/2 against the
 // rounding error 2ε_A/h (Gill, Murray, Saunders & Wright 1983, §2; Nocedal
-// & Wright 2006, §8.1). An estimate of f” below its own rounding noise
-// 4ε_A/h̄² is replaced by that noise, and h_i is kept within [√u·s, h̄],
-// so that it neither vanishes in rounding nor leaves the local model. It
-// costs two objective calls per unknown.
+// & Wright 2006, §8.1), with ε_A from noiseLevel and the probes' slopes.
+// An estimate of f″ below its own rounding noise 4ε_A/h̄² is replaced by
+// that noise, and h_i is kept within [64u·s, h̄], so that the step stays
+// resolvable and within the local model. It costs two objective calls per
+// unknown.
 //
 // References:
 //   - P. E. Gill, W. Murray, M. A. Saunders and M. H. Wright, Computing
@@ -117,14 +130,14 @@ func probeStep(xi, h elem) (elem, elem) {
 //     Springer, 2006, §8.1.
 func calibrateForward(recv *receiver, x *vec, fx elem, diffs *differences, budget int) (int, bool) {
 	probe := *x
-	calls := 0
+	var slope vec
+	scale := abs(fx)
 	for i := range probe {
-		xi := probe[i]
-		s := larger(1, abs(xi))
-		bar := centralScale * s
-		if calls+2 > budget {
-			return calls, false
+		if 2*(i+1) > budget {
+			return 2 * i, false
 		}
+		xi := probe[i]
+		bar := centralScale * larger(1, abs(xi))
 		up, hUp := probeStep(xi, bar)
 		probe[i] = up
 		fUp := recv.objective(&probe)
@@ -132,71 +145,79 @@ func calibrateForward(recv *receiver, x *vec, fx elem, diffs *differences, budge
 		probe[i] = down
 		fDown := recv.objective(&probe)
 		probe[i] = xi
-		calls += 2
-		noise := noiseLevel(larger(abs(fx), larger(magnitude(fUp), magnitude(fDown))))
-		h := hUp
-		second := elem(0)
+		scale = larger(scale, larger(magnitude(fUp), magnitude(fDown)))
 		if finite(fUp) && finite(fDown) {
-			// f'' from the two one-sided slopes over the representable
-			// steps hUp > 0 > hDown.
-			second = abs((fUp-fx)/hUp-(fx-fDown)/(-hDown)) * 2 / (hUp - hDown)
+			// f″ from the two one-sided slopes over the representable
+			// steps hUp > 0 > hDown, and the central slope.
+			diffs.curvature[i] = abs((fUp-fx)/hUp-(fx-fDown)/(-hDown)) * 2 / (hUp - hDown)
+			slope[i] = (fUp - fDown) / (hUp - hDown)
 		}
-		second = larger(second, 4*noise/(h*h))
+	}
+	noise := noiseLevel(x, scale, &slope)
+	for i := range probe {
+		s := larger(1, abs(probe[i]))
+		bar := centralScale * s
+		second := larger(diffs.curvature[i], 4*noise/(bar*bar))
+		h := bar
 		if second > 0 {
-			h = 2 * squareRoot(noise/second) // GMSW 1983: h = 2√(ε_A/|f''|)
+			h = 2 * squareRoot(noise/second) // GMSW 1983: h = 2√(ε_A/|f″|)
 		}
-		diffs.ratio[i] = clampBetween(h, forwardScale*s, bar) / s
+		diffs.ratio[i] = clampBetween(h, 64*unitRoundoff*s, bar) / s
 		diffs.curvature[i] = second
 	}
-	return calls, true
+	return 2 * len(probe), true
 }
 
 // calibrateCentral chooses each central-difference interval from the
 // third derivative along e_i, estimated at x with four probes at ±h̄ and
 // ±2h̄, h̄ = u^(1/4)·s, s = max(1, |x_i|):
 //
-//	f''' ≈ (f(x + 2h̄eᵢ) − 2f(x + h̄eᵢ) + 2f(x − h̄eᵢ) − f(x − 2h̄eᵢ)) / (2h̄³),
-//	h_i  = ∛(3ε_A / |f'''|)
+//	f‴ ≈ (f(x + 2h̄eᵢ) − 2f(x + h̄eᵢ) + 2f(x − h̄eᵢ) − f(x − 2h̄eᵢ)) / (2h̄³),
+//	h_i  = ∛(3ε_A / |f‴|)
 //
-// the interval that minimizes the truncation error h²|f”'|/6 plus the
+// the interval that minimizes the truncation error h²|f‴|/6 plus the
 // rounding error ε_A/h of a central difference (Nocedal & Wright 2006,
 // §8.1, with the third-derivative estimate of the forward interval's
 // procedure of Gill, Murray, Saunders & Wright 1983 carried one order
-// up). An estimate below its rounding noise 3ε_A/h̄³ is replaced by that
-// noise, and h_i is kept within [√u·s, h̄]. It costs four objective calls
-// per unknown.
+// up), with ε_A from noiseLevel and the probes' slopes. An estimate below
+// its rounding noise 3ε_A/h̄³ is replaced by that noise, and h_i is kept
+// within [64u·s, h̄]. It costs four objective calls per unknown.
 func calibrateCentral(recv *receiver, x *vec, fx elem, diffs *differences, budget int) (int, bool) {
 	probe := *x
-	calls := 0
+	var slope vec
+	scale := abs(fx)
 	quarter := squareRoot(squareRoot(unitRoundoff)) // u^(1/4)
 	for i := range probe {
-		xi := probe[i]
-		s := larger(1, abs(xi))
-		bar := quarter * s
-		if calls+4 > budget {
-			return calls, false
+		if 4*(i+1) > budget {
+			return 4 * i, false
 		}
+		xi := probe[i]
+		bar := quarter * larger(1, abs(xi))
 		var f [4]elem
 		for k, m := range [4]elem{2, 1, -1, -2} {
 			probe[i], _ = probeStep(xi, m*bar)
 			f[k] = recv.objective(&probe)
+			scale = larger(scale, magnitude(f[k]))
 		}
 		probe[i] = xi
-		calls += 4
-		noise := noiseLevel(larger(larger(abs(fx), magnitude(f[0])), larger(larger(magnitude(f[1]), magnitude(f[2])), magnitude(f[3]))))
-		third := elem(0)
 		if finite(f[0]) && finite(f[1]) && finite(f[2]) && finite(f[3]) {
-			third = abs(f[0]-2*f[1]+2*f[2]-f[3]) / (2 * bar * bar * bar)
+			diffs.curvature[i] = abs(f[0]-2*f[1]+2*f[2]-f[3]) / (2 * bar * bar * bar)
+			slope[i] = (f[1] - f[2]) / (2 * bar)
 		}
-		third = larger(third, 3*noise/(bar*bar*bar))
+	}
+	noise := noiseLevel(x, scale, &slope)
+	for i := range probe {
+		s := larger(1, abs(probe[i]))
+		bar := quarter * s
+		third := larger(diffs.curvature[i], 3*noise/(bar*bar*bar))
 		h := bar
 		if third > 0 {
-			h = cubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f'''|/6 + ε_A/h
+			h = cubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
 		}
-		diffs.ratio[i] = clampBetween(h, forwardScale*s, bar) / s
+		diffs.ratio[i] = clampBetween(h, 64*unitRoundoff*s, bar) / s
 		diffs.curvature[i] = third
 	}
-	return calls, true
+	return 4 * len(probe), true
 }
 
 // cubeRoot returns ∛v for v ≥ 0.
@@ -222,12 +243,12 @@ func forwardDifference(recv *receiver, x *vec, fx elem, g *vec, diffs *differenc
 }
 
 // forwardError bounds each forward difference's error by twice its
-// truncation h|f”|/2 plus rounding 2ε_A/h, with f” from the last
-// calibration and ε_A at fx (Nocedal & Wright 2006, §8.1; the factor 2
-// allows for f” changing within the interval and since the calibration,
+// truncation h|f″|/2 plus rounding 2ε_A/h, with f″ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2
+// allows for f″ changing within the interval and since the calibration,
 // common practice).
-func forwardError(x *vec, fx elem, e *vec, diffs *differences) {
-	noise := noiseLevel(fx)
+func forwardError(x *vec, fx elem, g, e *vec, diffs *differences) {
+	noise := noiseLevel(x, fx, g)
 	for i := range e {
 		h := diffs.ratio[i] * larger(1, abs(x[i]))
 		e[i] = 2 * (h*diffs.curvature[i]/2 + 2*noise/h)
@@ -258,11 +279,11 @@ func centralDifference(recv *receiver, x *vec, fx elem, g *vec, diffs *differenc
 }
 
 // centralError bounds each central difference's error by twice its
-// truncation h²|f”'|/6 plus rounding ε_A/h, with f”' from the last
-// calibration and ε_A at fx (Nocedal & Wright 2006, §8.1; the factor 2 as
+// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
 // in forwardError).
-func centralError(x *vec, fx elem, e *vec, diffs *differences) {
-	noise := noiseLevel(fx)
+func centralError(x *vec, fx elem, g, e *vec, diffs *differences) {
+	noise := noiseLevel(x, fx, g)
 	for i := range e {
 		h := diffs.ratio[i] * larger(1, abs(x[i]))
 		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
@@ -292,7 +313,7 @@ func confirmGradient(recv *receiver, x *vec, fx elem, g, e *vec, diffs *differen
 	var doubled vec
 	derivative(recv, x, fx, g, diffs)
 	derivative(recv, x, fx, &doubled, &wide)
-	gradientError(x, fx, e, diffs)
+	gradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * abs(g[i]-doubled[i])
 	}

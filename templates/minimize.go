@@ -18,7 +18,7 @@ type outcome struct {
 //
 //  1. stop, converged, when the gradient measure (gradientMeasure, error
 //     bound of differences included) is at most the limit: lim.Gradient,
-//     or ten times the measure of the differences' error bound when that is
+//     or three times the measure of the differences' error bound when that is
 //     larger, so that the limit can be met (the floor the test can see);
 //     differences confirm it first (confirmGradient);
 //  2. stop after lim.Iterations accepted steps;
@@ -29,7 +29,9 @@ type outcome struct {
 //     decrease when f contradicts an analytic gradient (see riseTrend);
 //  5. move, refresh the gradient, let the direction learn from the step;
 //  6. stop, stalled, when every |Δx_i| is at most lim.Step·(|x_i| + 1) while
-//     the gradient test still fails.
+//     the gradient test still fails. A stall with differences whose
+//     gradient measure is within ten times their error's measure is
+//     convergence to their accuracy, once confirmed, with that limit.
 //
 // Only step 1 is convergence: the first-order test holds at X. Before
 // every objective call it checks that lim.Evaluations leaves room for it,
@@ -73,12 +75,18 @@ func minimize(recv *receiver, x0 vec, lim limits) outcome {
 	best := out                            // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                  // f(x0), and consecutive accepted steps that raised f above it
 	confirmed := false                     // whether g and e at x come from confirmGradient
+	stalled := false                       // whether the run can make no more progress at x
+	retried := -1                          // the iteration whose stall was retried with recalibrated differences
 	for {
 		if !confirmed {
-			gradientError(&x, fx, &e, &diffs)
+			gradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := gradientMeasure(&g, &e, &x, fx)
-		out.gradient, out.gradientLimit = measure, larger(lim.Gradient, 10*floor)
+		margin := elem(3) // the limit differences can be held to, in multiples of their error's measure
+		if stalled {
+			margin = 10
+		}
+		out.gradient, out.gradientLimit = measure, larger(lim.Gradient, margin*floor)
 		if out.f <= best.f {
 			best = out
 		}
@@ -100,8 +108,21 @@ func minimize(recv *receiver, x0 vec, lim limits) outcome {
 			confirmed = true
 			continue
 		}
-		if out.iterations > 0 {
+		if stalled {
+			// The gradient from intervals chosen here is still above the
+			// limit: search once more with it.
+			stalled, retried = false, out.iterations
+		}
+		// A stall with differences whose gradient is within ten times its
+		// error bound's measure of zero is convergence to their accuracy,
+		// once confirmed: no step can show progress below their error.
+		lenient := derivativeCost > 0 && retried != out.iterations && measure <= larger(lim.Gradient, 10*floor)
+		if out.iterations > 0 && retried != out.iterations {
 			if stepWithin(&s, &x, lim.Step) {
+				if lenient {
+					stalled, confirmed = true, false
+					continue
+				}
 				return best.ending(statusStalled, out.iterations, out.evaluations)
 			}
 			if rises >= 8 {
@@ -141,6 +162,9 @@ func minimize(recv *receiver, x0 vec, lim limits) outcome {
 			switch {
 			case found.rising:
 				end = statusNoDecrease
+			case found.end == searchTiny && lenient:
+				stalled, confirmed = true, false
+				continue
 			case found.end == searchTiny:
 				end = statusStalled
 			}

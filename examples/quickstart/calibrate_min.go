@@ -132,7 +132,7 @@ const (
 //
 //  1. stop, converged, when the gradient measure (calibrateGradientMeasure, error
 //     bound of differences included) is at most the limit: lim.Gradient,
-//     or ten times the measure of the differences' error bound when that is
+//     or three times the measure of the differences' error bound when that is
 //     larger, so that the limit can be met (the floor the test can see);
 //     differences confirm it first (calibrateConfirmGradient);
 //  2. stop after lim.Iterations accepted steps;
@@ -143,7 +143,9 @@ const (
 //     decrease when f contradicts an analytic gradient (see calibrateRiseTrend);
 //  5. move, refresh the gradient, let the direction learn from the step;
 //  6. stop, stalled, when every |Δx_i| is at most lim.Step·(|x_i| + 1) while
-//     the gradient test still fails.
+//     the gradient test still fails. A stall with differences whose
+//     gradient measure is within ten times their error's measure is
+//     convergence to their accuracy, once confirmed, with that limit.
 //
 // Only step 1 is convergence: the first-order test holds at X. Before
 // every objective call it checks that lim.Evaluations leaves room for it,
@@ -186,12 +188,18 @@ func calibrateMinimize(x0 [2]float64, lim CalibrateLimits) calibrateOutcome {
 	best := out                                           // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                 // f(x0), and consecutive accepted steps that raised f above it
 	confirmed := false                                    // whether g and e at x come from calibrateConfirmGradient
+	stalled := false                                      // whether the run can make no more progress at x
+	retried := -1                                         // the iteration whose stall was retried with recalibrated differences
 	for {
 		if !confirmed {
-			calibrateGradientError(&x, fx, &e, &diffs)
+			calibrateGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := calibrateGradientMeasure(&g, &e, &x, fx)
-		out.gradient, out.gradientLimit = measure, calibrateLarger(lim.Gradient, 10*floor)
+		margin := float64(3) // the limit differences can be held to, in multiples of their error's measure
+		if stalled {
+			margin = 10
+		}
+		out.gradient, out.gradientLimit = measure, calibrateLarger(lim.Gradient, margin*floor)
 		if out.f <= best.f {
 			best = out
 		}
@@ -213,8 +221,21 @@ func calibrateMinimize(x0 [2]float64, lim CalibrateLimits) calibrateOutcome {
 			confirmed = true
 			continue
 		}
-		if out.iterations > 0 {
+		if stalled {
+			// The gradient from intervals chosen here is still above the
+			// limit: search once more with it.
+			stalled, retried = false, out.iterations
+		}
+		// A stall with differences whose gradient is within ten times its
+		// error bound's measure of zero is convergence to their accuracy,
+		// once confirmed: no step can show progress below their error.
+		lenient := calibrateDerivativeCost > 0 && retried != out.iterations && measure <= calibrateLarger(lim.Gradient, 10*floor)
+		if out.iterations > 0 && retried != out.iterations {
 			if calibrateStepWithin(&s, &x, lim.Step) {
+				if lenient {
+					stalled, confirmed = true, false
+					continue
+				}
 				return best.ending(CalibrateStalled, out.iterations, out.evaluations)
 			}
 			if rises >= 8 {
@@ -254,6 +275,9 @@ func calibrateMinimize(x0 [2]float64, lim CalibrateLimits) calibrateOutcome {
 			switch {
 			case found.rising:
 				end = CalibrateNoDecrease
+			case found.end == calibrateSearchTiny && lenient:
+				stalled, confirmed = true, false
+				continue
 			case found.end == calibrateSearchTiny:
 				end = CalibrateStalled
 			}
@@ -336,8 +360,8 @@ func calibrateFiniteVec(x *[2]float64) bool {
 
 // calibrateDifferences is what the difference gradients learn from the objective
 // at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f”| for
-// forward differences, |f”'| for central ones). The analytic gradient
+// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
+// forward differences, |f‴| for central ones). The analytic gradient
 // leaves it unused.
 type calibrateDifferences struct {
 	ratio     [2]float64
@@ -446,7 +470,7 @@ func calibrateCurvatureSafe(s, y *[2]float64) bool {
 
 // calibrateGradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
-func calibrateGradientError(x *[2]float64, fx float64, e *[2]float64, diffs *calibrateDifferences) {
+func calibrateGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *calibrateDifferences) {
 	for i := range e {
 		e[i] = 0
 	}
@@ -514,7 +538,7 @@ func calibrateConfirmGradient(x *[2]float64, fx float64, g, e *[2]float64, diffs
 	var doubled [2]float64
 	calibrateDerivative(x, fx, g, diffs)
 	calibrateDerivative(x, fx, &doubled, &wide)
-	calibrateGradientError(x, fx, e, diffs)
+	calibrateGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * calibrateAbs(g[i]-doubled[i])
 	}

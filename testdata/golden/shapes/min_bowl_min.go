@@ -126,7 +126,6 @@ const (
 	minBowlDerivativeCost = 3                     // objective calls per gradient
 	minBowlUnitRoundoff   = 5.960464477539063e-08 // unit roundoff u of the float type
 	minBowlLargestFinite  = 0x1.fffffep127        // the largest finite value of the float type
-	minBowlForwardScale   = 0.000244140625        // √u, forward-difference step scale (Nocedal & Wright 2006, §8.1)
 	minBowlCentralScale   = 0.00390625            // ∛u, central-difference step scale (Nocedal & Wright 2006, §8.1)
 )
 
@@ -134,7 +133,7 @@ const (
 //
 //  1. stop, converged, when the gradient measure (minBowlGradientMeasure, error
 //     bound of differences included) is at most the limit: lim.Gradient,
-//     or ten times the measure of the differences' error bound when that is
+//     or three times the measure of the differences' error bound when that is
 //     larger, so that the limit can be met (the floor the test can see);
 //     differences confirm it first (minBowlConfirmGradient);
 //  2. stop after lim.Iterations accepted steps;
@@ -145,7 +144,9 @@ const (
 //     decrease when f contradicts an analytic gradient (see minBowlRiseTrend);
 //  5. move, refresh the gradient, let the direction learn from the step;
 //  6. stop, stalled, when every |Δx_i| is at most lim.Step·(|x_i| + 1) while
-//     the gradient test still fails.
+//     the gradient test still fails. A stall with differences whose
+//     gradient measure is within ten times their error's measure is
+//     convergence to their accuracy, once confirmed, with that limit.
 //
 // Only step 1 is convergence: the first-order test holds at X. Before
 // every objective call it checks that lim.Evaluations leaves room for it,
@@ -188,12 +189,18 @@ func minBowlMinimize(x0 [3]float32, lim MinBowlLimits) minBowlOutcome {
 	best := out                                         // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                               // f(x0), and consecutive accepted steps that raised f above it
 	confirmed := false                                  // whether g and e at x come from minBowlConfirmGradient
+	stalled := false                                    // whether the run can make no more progress at x
+	retried := -1                                       // the iteration whose stall was retried with recalibrated differences
 	for {
 		if !confirmed {
-			minBowlGradientError(&x, fx, &e, &diffs)
+			minBowlGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := minBowlGradientMeasure(&g, &e, &x, fx)
-		out.gradient, out.gradientLimit = measure, minBowlLarger(lim.Gradient, 10*floor)
+		margin := float32(3) // the limit differences can be held to, in multiples of their error's measure
+		if stalled {
+			margin = 10
+		}
+		out.gradient, out.gradientLimit = measure, minBowlLarger(lim.Gradient, margin*floor)
 		if out.f <= best.f {
 			best = out
 		}
@@ -215,8 +222,21 @@ func minBowlMinimize(x0 [3]float32, lim MinBowlLimits) minBowlOutcome {
 			confirmed = true
 			continue
 		}
-		if out.iterations > 0 {
+		if stalled {
+			// The gradient from intervals chosen here is still above the
+			// limit: search once more with it.
+			stalled, retried = false, out.iterations
+		}
+		// A stall with differences whose gradient is within ten times its
+		// error bound's measure of zero is convergence to their accuracy,
+		// once confirmed: no step can show progress below their error.
+		lenient := minBowlDerivativeCost > 0 && retried != out.iterations && measure <= minBowlLarger(lim.Gradient, 10*floor)
+		if out.iterations > 0 && retried != out.iterations {
 			if minBowlStepWithin(&s, &x, lim.Step) {
+				if lenient {
+					stalled, confirmed = true, false
+					continue
+				}
 				return best.ending(MinBowlStalled, out.iterations, out.evaluations)
 			}
 			if rises >= 8 {
@@ -256,6 +276,9 @@ func minBowlMinimize(x0 [3]float32, lim MinBowlLimits) minBowlOutcome {
 			switch {
 			case found.rising:
 				end = MinBowlNoDecrease
+			case found.end == minBowlSearchTiny && lenient:
+				stalled, confirmed = true, false
+				continue
 			case found.end == minBowlSearchTiny:
 				end = MinBowlStalled
 			}
@@ -338,8 +361,8 @@ func minBowlFiniteVec(x *[3]float32) bool {
 
 // minBowlDifferences is what the difference gradients learn from the objective
 // at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f”| for
-// forward differences, |f”'| for central ones). The analytic gradient
+// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
+// forward differences, |f‴| for central ones). The analytic gradient
 // leaves it unused.
 type minBowlDifferences struct {
 	ratio     [3]float32
@@ -350,15 +373,16 @@ type minBowlDifferences struct {
 // second derivative along e_i, estimated at x with two probes at
 // ±h̄, h̄ = ∛u·s, s = max(1, |x_i|):
 //
-//	f''  ≈ (f(x + h̄eᵢ) − 2f(x) + f(x − h̄eᵢ)) / h̄²,
-//	h_i  = 2·√(ε_A / |f''|)
+//	f″  ≈ (f(x + h̄eᵢ) − 2f(x) + f(x − h̄eᵢ)) / h̄²,
+//	h_i  = 2·√(ε_A / |f″|)
 //
-// the interval that balances the truncation error h|f”|/2 against the
+// the interval that balances the truncation error h|f″|/2 against the
 // rounding error 2ε_A/h (Gill, Murray, Saunders & Wright 1983, §2; Nocedal
-// & Wright 2006, §8.1). An estimate of f” below its own rounding noise
-// 4ε_A/h̄² is replaced by that noise, and h_i is kept within [√u·s, h̄],
-// so that it neither vanishes in rounding nor leaves the local model. It
-// costs two objective calls per unknown.
+// & Wright 2006, §8.1), with ε_A from minBowlNoiseLevel and the probes' slopes.
+// An estimate of f″ below its own rounding noise 4ε_A/h̄² is replaced by
+// that noise, and h_i is kept within [64u·s, h̄], so that the step stays
+// resolvable and within the local model. It costs two objective calls per
+// unknown.
 //
 // References:
 //   - P. E. Gill, W. Murray, M. A. Saunders and M. H. Wright, Computing
@@ -368,14 +392,14 @@ type minBowlDifferences struct {
 //     Springer, 2006, §8.1.
 func minBowlCalibrate(x *[3]float32, fx float32, diffs *minBowlDifferences, budget int) (int, bool) {
 	probe := *x
-	calls := 0
+	var slope [3]float32
+	scale := minBowlAbs(fx)
 	for i := range probe {
-		xi := probe[i]
-		s := minBowlLarger(1, minBowlAbs(xi))
-		bar := minBowlCentralScale * s
-		if calls+2 > budget {
-			return calls, false
+		if 2*(i+1) > budget {
+			return 2 * i, false
 		}
+		xi := probe[i]
+		bar := minBowlCentralScale * minBowlLarger(1, minBowlAbs(xi))
 		up, hUp := minBowlProbeStep(xi, bar)
 		probe[i] = up
 		fUp := Bowl(probe[:])
@@ -383,23 +407,35 @@ func minBowlCalibrate(x *[3]float32, fx float32, diffs *minBowlDifferences, budg
 		probe[i] = down
 		fDown := Bowl(probe[:])
 		probe[i] = xi
-		calls += 2
-		noise := minBowlNoiseLevel(minBowlLarger(minBowlAbs(fx), minBowlLarger(minBowlMagnitude(fUp), minBowlMagnitude(fDown))))
-		h := hUp
-		second := float32(0)
+		scale = minBowlLarger(scale, minBowlLarger(minBowlMagnitude(fUp), minBowlMagnitude(fDown)))
 		if minBowlFinite(fUp) && minBowlFinite(fDown) {
-			// f'' from the two one-sided slopes over the representable
-			// steps hUp > 0 > hDown.
-			second = minBowlAbs((fUp-fx)/hUp-(fx-fDown)/(-hDown)) * 2 / (hUp - hDown)
+			// f″ from the two one-sided slopes over the representable
+			// steps hUp > 0 > hDown, and the central slope.
+			diffs.curvature[i] = minBowlAbs((fUp-fx)/hUp-(fx-fDown)/(-hDown)) * 2 / (hUp - hDown)
+			slope[i] = (fUp - fDown) / (hUp - hDown)
 		}
-		second = minBowlLarger(second, 4*noise/(h*h))
+	}
+	noise := minBowlNoiseLevel(x, scale, &slope)
+	for i := range probe {
+		s := minBowlLarger(1, minBowlAbs(probe[i]))
+		bar := minBowlCentralScale * s
+		second := minBowlLarger(diffs.curvature[i], 4*noise/(bar*bar))
+		h := bar
 		if second > 0 {
-			h = 2 * minBowlSquareRoot(noise/second) // GMSW 1983: h = 2√(ε_A/|f''|)
+			h = 2 * minBowlSquareRoot(noise/second) // GMSW 1983: h = 2√(ε_A/|f″|)
 		}
-		diffs.ratio[i] = minBowlClampBetween(h, minBowlForwardScale*s, bar) / s
+		diffs.ratio[i] = minBowlClampBetween(h, 64*minBowlUnitRoundoff*s, bar) / s
 		diffs.curvature[i] = second
 	}
-	return calls, true
+	return 2 * len(probe), true
+}
+
+// minBowlAbs returns |v|.
+func minBowlAbs(v float32) float32 {
+	if v < 0 {
+		return -v
+	}
+	return v
 }
 
 // minBowlLarger returns the larger of a and b, or a NaN among them. The builtin
@@ -412,25 +448,10 @@ func minBowlLarger(a, b float32) float32 {
 	return b
 }
 
-// minBowlAbs returns |v|.
-func minBowlAbs(v float32) float32 {
-	if v < 0 {
-		return -v
-	}
-	return v
-}
-
 // minBowlProbeStep returns x_i moved by h, and the step actually representable.
 func minBowlProbeStep(xi, h float32) (float32, float32) {
 	moved := xi + h
 	return moved, moved - xi
-}
-
-// minBowlNoiseLevel is the absolute error assumed in a computed value fx of the
-// objective, ε_A = 4u·|fx|: a few roundings of the result (common
-// practice; Gill, Murray, Saunders & Wright 1983 leave ε_A to the user).
-func minBowlNoiseLevel(fx float32) float32 {
-	return 4 * minBowlUnitRoundoff * minBowlAbs(fx)
 }
 
 // minBowlMagnitude is |v| for a finite v and 0 otherwise: a probe that fell
@@ -440,6 +461,25 @@ func minBowlMagnitude(v float32) float32 {
 		return 0
 	}
 	return minBowlAbs(v)
+}
+
+// minBowlNoiseLevel is the absolute error assumed in a computed value fx of the
+// objective at x, where its gradient is about g:
+//
+//	ε_A = 4u·(|fx| + Σᵢ |gᵢ·xᵢ|),
+//
+// a few roundings of the result plus the change that rounding each xᵢ by
+// a relative u makes in f, which is what an objective computed with
+// cancellation inside (y − x² in Rosenbrock's valley) shows near a zero
+// minimum, where u·|f| alone vanishes (the first-order error of
+// evaluating f at a rounded x; the factor 4 is common practice; Gill,
+// Murray, Saunders & Wright 1983 leave ε_A to the user).
+func minBowlNoiseLevel(x *[3]float32, fx float32, g *[3]float32) float32 {
+	sum := minBowlAbs(fx)
+	for i := range x {
+		sum += minBowlAbs(g[i] * x[i])
+	}
+	return 4 * minBowlUnitRoundoff * sum
 }
 
 // minBowlSquareRoot returns √v.
@@ -552,12 +592,12 @@ func minBowlScaledTrial(t, slope, now float32) float32 {
 }
 
 // minBowlGradientError bounds each forward difference's error by twice its
-// truncation h|f”|/2 plus rounding 2ε_A/h, with f” from the last
-// calibration and ε_A at fx (Nocedal & Wright 2006, §8.1; the factor 2
-// allows for f” changing within the interval and since the calibration,
+// truncation h|f″|/2 plus rounding 2ε_A/h, with f″ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2
+// allows for f″ changing within the interval and since the calibration,
 // common practice).
-func minBowlGradientError(x *[3]float32, fx float32, e *[3]float32, diffs *minBowlDifferences) {
-	noise := minBowlNoiseLevel(fx)
+func minBowlGradientError(x *[3]float32, fx float32, g, e *[3]float32, diffs *minBowlDifferences) {
+	noise := minBowlNoiseLevel(x, fx, g)
 	for i := range e {
 		h := diffs.ratio[i] * minBowlLarger(1, minBowlAbs(x[i]))
 		e[i] = 2 * (h*diffs.curvature[i]/2 + 2*noise/h)
@@ -608,7 +648,7 @@ func minBowlConfirmGradient(x *[3]float32, fx float32, g, e *[3]float32, diffs *
 	var doubled [3]float32
 	minBowlDerivative(x, fx, g, diffs)
 	minBowlDerivative(x, fx, &doubled, &wide)
-	minBowlGradientError(x, fx, e, diffs)
+	minBowlGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * minBowlAbs(g[i]-doubled[i])
 	}

@@ -126,14 +126,13 @@ const (
 	minParabolaDerivativeCost = 2                      // objective calls per gradient
 	minParabolaUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
 	minParabolaLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
-	minParabolaForwardScale   = 1.0536712127723509e-08 // √u, forward-difference step scale (Nocedal & Wright 2006, §8.1)
 )
 
 // minParabolaMinimize runs the descent loop from x0 within lim:
 //
 //  1. stop, converged, when the gradient measure (minParabolaGradientMeasure, error
 //     bound of differences included) is at most the limit: lim.Gradient,
-//     or ten times the measure of the differences' error bound when that is
+//     or three times the measure of the differences' error bound when that is
 //     larger, so that the limit can be met (the floor the test can see);
 //     differences confirm it first (minParabolaConfirmGradient);
 //  2. stop after lim.Iterations accepted steps;
@@ -144,7 +143,9 @@ const (
 //     decrease when f contradicts an analytic gradient (see minParabolaRiseTrend);
 //  5. move, refresh the gradient, let the direction learn from the step;
 //  6. stop, stalled, when every |Δx_i| is at most lim.Step·(|x_i| + 1) while
-//     the gradient test still fails.
+//     the gradient test still fails. A stall with differences whose
+//     gradient measure is within ten times their error's measure is
+//     convergence to their accuracy, once confirmed, with that limit.
 //
 // Only step 1 is convergence: the first-order test holds at X. Before
 // every objective call it checks that lim.Evaluations leaves room for it,
@@ -187,12 +188,18 @@ func minParabolaMinimize(x0 [1]float64, lim MinParabolaLimits) minParabolaOutcom
 	best := out                                             // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                   // f(x0), and consecutive accepted steps that raised f above it
 	confirmed := false                                      // whether g and e at x come from minParabolaConfirmGradient
+	stalled := false                                        // whether the run can make no more progress at x
+	retried := -1                                           // the iteration whose stall was retried with recalibrated differences
 	for {
 		if !confirmed {
-			minParabolaGradientError(&x, fx, &e, &diffs)
+			minParabolaGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := minParabolaGradientMeasure(&g, &e, &x, fx)
-		out.gradient, out.gradientLimit = measure, minParabolaLarger(lim.Gradient, 10*floor)
+		margin := float64(3) // the limit differences can be held to, in multiples of their error's measure
+		if stalled {
+			margin = 10
+		}
+		out.gradient, out.gradientLimit = measure, minParabolaLarger(lim.Gradient, margin*floor)
 		if out.f <= best.f {
 			best = out
 		}
@@ -214,8 +221,21 @@ func minParabolaMinimize(x0 [1]float64, lim MinParabolaLimits) minParabolaOutcom
 			confirmed = true
 			continue
 		}
-		if out.iterations > 0 {
+		if stalled {
+			// The gradient from intervals chosen here is still above the
+			// limit: search once more with it.
+			stalled, retried = false, out.iterations
+		}
+		// A stall with differences whose gradient is within ten times its
+		// error bound's measure of zero is convergence to their accuracy,
+		// once confirmed: no step can show progress below their error.
+		lenient := minParabolaDerivativeCost > 0 && retried != out.iterations && measure <= minParabolaLarger(lim.Gradient, 10*floor)
+		if out.iterations > 0 && retried != out.iterations {
 			if minParabolaStepWithin(&s, &x, lim.Step) {
+				if lenient {
+					stalled, confirmed = true, false
+					continue
+				}
 				return best.ending(MinParabolaStalled, out.iterations, out.evaluations)
 			}
 			if rises >= 8 {
@@ -255,6 +275,9 @@ func minParabolaMinimize(x0 [1]float64, lim MinParabolaLimits) minParabolaOutcom
 			switch {
 			case found.rising:
 				end = MinParabolaNoDecrease
+			case found.end == minParabolaSearchTiny && lenient:
+				stalled, confirmed = true, false
+				continue
 			case found.end == minParabolaSearchTiny:
 				end = MinParabolaStalled
 			}
@@ -337,8 +360,8 @@ func minParabolaFiniteVec(x *[1]float64) bool {
 
 // minParabolaDifferences is what the difference gradients learn from the objective
 // at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f”| for
-// forward differences, |f”'| for central ones). The analytic gradient
+// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
+// forward differences, |f‴| for central ones). The analytic gradient
 // leaves it unused.
 type minParabolaDifferences struct {
 	ratio     [1]float64
@@ -349,48 +372,60 @@ type minParabolaDifferences struct {
 // third derivative along e_i, estimated at x with four probes at ±h̄ and
 // ±2h̄, h̄ = u^(1/4)·s, s = max(1, |x_i|):
 //
-//	f''' ≈ (f(x + 2h̄eᵢ) − 2f(x + h̄eᵢ) + 2f(x − h̄eᵢ) − f(x − 2h̄eᵢ)) / (2h̄³),
-//	h_i  = ∛(3ε_A / |f'''|)
+//	f‴ ≈ (f(x + 2h̄eᵢ) − 2f(x + h̄eᵢ) + 2f(x − h̄eᵢ) − f(x − 2h̄eᵢ)) / (2h̄³),
+//	h_i  = ∛(3ε_A / |f‴|)
 //
-// the interval that minimizes the truncation error h²|f”'|/6 plus the
+// the interval that minimizes the truncation error h²|f‴|/6 plus the
 // rounding error ε_A/h of a central difference (Nocedal & Wright 2006,
 // §8.1, with the third-derivative estimate of the forward interval's
 // procedure of Gill, Murray, Saunders & Wright 1983 carried one order
-// up). An estimate below its rounding noise 3ε_A/h̄³ is replaced by that
-// noise, and h_i is kept within [√u·s, h̄]. It costs four objective calls
-// per unknown.
+// up), with ε_A from minParabolaNoiseLevel and the probes' slopes. An estimate below
+// its rounding noise 3ε_A/h̄³ is replaced by that noise, and h_i is kept
+// within [64u·s, h̄]. It costs four objective calls per unknown.
 func minParabolaCalibrate(x *[1]float64, fx float64, diffs *minParabolaDifferences, budget int) (int, bool) {
 	probe := *x
-	calls := 0
+	var slope [1]float64
+	scale := minParabolaAbs(fx)
 	quarter := minParabolaSquareRoot(minParabolaSquareRoot(minParabolaUnitRoundoff)) // u^(1/4)
 	for i := range probe {
-		xi := probe[i]
-		s := minParabolaLarger(1, minParabolaAbs(xi))
-		bar := quarter * s
-		if calls+4 > budget {
-			return calls, false
+		if 4*(i+1) > budget {
+			return 4 * i, false
 		}
+		xi := probe[i]
+		bar := quarter * minParabolaLarger(1, minParabolaAbs(xi))
 		var f [4]float64
 		for k, m := range [4]float64{2, 1, -1, -2} {
 			probe[i], _ = minParabolaProbeStep(xi, m*bar)
 			f[k] = Parabola(probe[0])
+			scale = minParabolaLarger(scale, minParabolaMagnitude(f[k]))
 		}
 		probe[i] = xi
-		calls += 4
-		noise := minParabolaNoiseLevel(minParabolaLarger(minParabolaLarger(minParabolaAbs(fx), minParabolaMagnitude(f[0])), minParabolaLarger(minParabolaLarger(minParabolaMagnitude(f[1]), minParabolaMagnitude(f[2])), minParabolaMagnitude(f[3]))))
-		third := float64(0)
 		if minParabolaFinite(f[0]) && minParabolaFinite(f[1]) && minParabolaFinite(f[2]) && minParabolaFinite(f[3]) {
-			third = minParabolaAbs(f[0]-2*f[1]+2*f[2]-f[3]) / (2 * bar * bar * bar)
+			diffs.curvature[i] = minParabolaAbs(f[0]-2*f[1]+2*f[2]-f[3]) / (2 * bar * bar * bar)
+			slope[i] = (f[1] - f[2]) / (2 * bar)
 		}
-		third = minParabolaLarger(third, 3*noise/(bar*bar*bar))
+	}
+	noise := minParabolaNoiseLevel(x, scale, &slope)
+	for i := range probe {
+		s := minParabolaLarger(1, minParabolaAbs(probe[i]))
+		bar := quarter * s
+		third := minParabolaLarger(diffs.curvature[i], 3*noise/(bar*bar*bar))
 		h := bar
 		if third > 0 {
-			h = minParabolaCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f'''|/6 + ε_A/h
+			h = minParabolaCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
 		}
-		diffs.ratio[i] = minParabolaClampBetween(h, minParabolaForwardScale*s, bar) / s
+		diffs.ratio[i] = minParabolaClampBetween(h, 64*minParabolaUnitRoundoff*s, bar) / s
 		diffs.curvature[i] = third
 	}
-	return calls, true
+	return 4 * len(probe), true
+}
+
+// minParabolaAbs returns |v|.
+func minParabolaAbs(v float64) float64 {
+	if v < 0 {
+		return -v
+	}
+	return v
 }
 
 // minParabolaSquareRoot returns √v.
@@ -408,25 +443,10 @@ func minParabolaLarger(a, b float64) float64 {
 	return b
 }
 
-// minParabolaAbs returns |v|.
-func minParabolaAbs(v float64) float64 {
-	if v < 0 {
-		return -v
-	}
-	return v
-}
-
 // minParabolaProbeStep returns x_i moved by h, and the step actually representable.
 func minParabolaProbeStep(xi, h float64) (float64, float64) {
 	moved := xi + h
 	return moved, moved - xi
-}
-
-// minParabolaNoiseLevel is the absolute error assumed in a computed value fx of the
-// objective, ε_A = 4u·|fx|: a few roundings of the result (common
-// practice; Gill, Murray, Saunders & Wright 1983 leave ε_A to the user).
-func minParabolaNoiseLevel(fx float64) float64 {
-	return 4 * minParabolaUnitRoundoff * minParabolaAbs(fx)
 }
 
 // minParabolaMagnitude is |v| for a finite v and 0 otherwise: a probe that fell
@@ -436,6 +456,25 @@ func minParabolaMagnitude(v float64) float64 {
 		return 0
 	}
 	return minParabolaAbs(v)
+}
+
+// minParabolaNoiseLevel is the absolute error assumed in a computed value fx of the
+// objective at x, where its gradient is about g:
+//
+//	ε_A = 4u·(|fx| + Σᵢ |gᵢ·xᵢ|),
+//
+// a few roundings of the result plus the change that rounding each xᵢ by
+// a relative u makes in f, which is what an objective computed with
+// cancellation inside (y − x² in Rosenbrock's valley) shows near a zero
+// minimum, where u·|f| alone vanishes (the first-order error of
+// evaluating f at a rounded x; the factor 4 is common practice; Gill,
+// Murray, Saunders & Wright 1983 leave ε_A to the user).
+func minParabolaNoiseLevel(x *[1]float64, fx float64, g *[1]float64) float64 {
+	sum := minParabolaAbs(fx)
+	for i := range x {
+		sum += minParabolaAbs(g[i] * x[i])
+	}
+	return 4 * minParabolaUnitRoundoff * sum
 }
 
 // minParabolaCubeRoot returns ∛v for v ≥ 0.
@@ -572,11 +611,11 @@ func minParabolaCurvatureSafe(s, y *[1]float64) bool {
 }
 
 // minParabolaGradientError bounds each central difference's error by twice its
-// truncation h²|f”'|/6 plus rounding ε_A/h, with f”' from the last
-// calibration and ε_A at fx (Nocedal & Wright 2006, §8.1; the factor 2 as
+// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
 // in forwardError).
-func minParabolaGradientError(x *[1]float64, fx float64, e *[1]float64, diffs *minParabolaDifferences) {
-	noise := minParabolaNoiseLevel(fx)
+func minParabolaGradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *minParabolaDifferences) {
+	noise := minParabolaNoiseLevel(x, fx, g)
 	for i := range e {
 		h := diffs.ratio[i] * minParabolaLarger(1, minParabolaAbs(x[i]))
 		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
@@ -627,7 +666,7 @@ func minParabolaConfirmGradient(x *[1]float64, fx float64, g, e *[1]float64, dif
 	var doubled [1]float64
 	minParabolaDerivative(x, fx, g, diffs)
 	minParabolaDerivative(x, fx, &doubled, &wide)
-	minParabolaGradientError(x, fx, e, diffs)
+	minParabolaGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * minParabolaAbs(g[i]-doubled[i])
 	}

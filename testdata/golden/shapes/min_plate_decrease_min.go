@@ -125,14 +125,13 @@ const (
 	minPlateDecreaseDerivativeCost = 4                     // objective calls per gradient
 	minPlateDecreaseUnitRoundoff   = 5.960464477539063e-08 // unit roundoff u of the float type
 	minPlateDecreaseLargestFinite  = 0x1.fffffep127        // the largest finite value of the float type
-	minPlateDecreaseForwardScale   = 0.000244140625        // √u, forward-difference step scale (Nocedal & Wright 2006, §8.1)
 )
 
 // minPlateDecreaseMinimize runs the descent loop from x0 within lim:
 //
 //  1. stop, converged, when the gradient measure (minPlateDecreaseGradientMeasure, error
 //     bound of differences included) is at most the limit: lim.Gradient,
-//     or ten times the measure of the differences' error bound when that is
+//     or three times the measure of the differences' error bound when that is
 //     larger, so that the limit can be met (the floor the test can see);
 //     differences confirm it first (minPlateDecreaseConfirmGradient);
 //  2. stop after lim.Iterations accepted steps;
@@ -143,7 +142,9 @@ const (
 //     decrease when f contradicts an analytic gradient (see minPlateDecreaseRiseTrend);
 //  5. move, refresh the gradient, let the direction learn from the step;
 //  6. stop, stalled, when every |Δx_i| is at most lim.Step·(|x_i| + 1) while
-//     the gradient test still fails.
+//     the gradient test still fails. A stall with differences whose
+//     gradient measure is within ten times their error's measure is
+//     convergence to their accuracy, once confirmed, with that limit.
 //
 // Only step 1 is convergence: the first-order test holds at X. Before
 // every objective call it checks that lim.Evaluations leaves room for it,
@@ -186,12 +187,18 @@ func minPlateDecreaseMinimize(x0 [2]float32, lim MinPlateDecreaseLimits) minPlat
 	best := out                                                  // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                        // f(x0), and consecutive accepted steps that raised f above it
 	confirmed := false                                           // whether g and e at x come from minPlateDecreaseConfirmGradient
+	stalled := false                                             // whether the run can make no more progress at x
+	retried := -1                                                // the iteration whose stall was retried with recalibrated differences
 	for {
 		if !confirmed {
-			minPlateDecreaseGradientError(&x, fx, &e, &diffs)
+			minPlateDecreaseGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := minPlateDecreaseGradientMeasure(&g, &e, &x, fx)
-		out.gradient, out.gradientLimit = measure, minPlateDecreaseLarger(lim.Gradient, 10*floor)
+		margin := float32(3) // the limit differences can be held to, in multiples of their error's measure
+		if stalled {
+			margin = 10
+		}
+		out.gradient, out.gradientLimit = measure, minPlateDecreaseLarger(lim.Gradient, margin*floor)
 		if out.f <= best.f {
 			best = out
 		}
@@ -213,8 +220,21 @@ func minPlateDecreaseMinimize(x0 [2]float32, lim MinPlateDecreaseLimits) minPlat
 			confirmed = true
 			continue
 		}
-		if out.iterations > 0 {
+		if stalled {
+			// The gradient from intervals chosen here is still above the
+			// limit: search once more with it.
+			stalled, retried = false, out.iterations
+		}
+		// A stall with differences whose gradient is within ten times its
+		// error bound's measure of zero is convergence to their accuracy,
+		// once confirmed: no step can show progress below their error.
+		lenient := minPlateDecreaseDerivativeCost > 0 && retried != out.iterations && measure <= minPlateDecreaseLarger(lim.Gradient, 10*floor)
+		if out.iterations > 0 && retried != out.iterations {
 			if minPlateDecreaseStepWithin(&s, &x, lim.Step) {
+				if lenient {
+					stalled, confirmed = true, false
+					continue
+				}
 				return best.ending(MinPlateDecreaseStalled, out.iterations, out.evaluations)
 			}
 			if rises >= 8 {
@@ -254,6 +274,9 @@ func minPlateDecreaseMinimize(x0 [2]float32, lim MinPlateDecreaseLimits) minPlat
 			switch {
 			case found.rising:
 				end = MinPlateDecreaseNoDecrease
+			case found.end == minPlateDecreaseSearchTiny && lenient:
+				stalled, confirmed = true, false
+				continue
 			case found.end == minPlateDecreaseSearchTiny:
 				end = MinPlateDecreaseStalled
 			}
@@ -336,8 +359,8 @@ func minPlateDecreaseFiniteVec(x *[2]float32) bool {
 
 // minPlateDecreaseDifferences is what the difference gradients learn from the objective
 // at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f”| for
-// forward differences, |f”'| for central ones). The analytic gradient
+// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
+// forward differences, |f‴| for central ones). The analytic gradient
 // leaves it unused.
 type minPlateDecreaseDifferences struct {
 	ratio     [2]float32
@@ -348,48 +371,60 @@ type minPlateDecreaseDifferences struct {
 // third derivative along e_i, estimated at x with four probes at ±h̄ and
 // ±2h̄, h̄ = u^(1/4)·s, s = max(1, |x_i|):
 //
-//	f''' ≈ (f(x + 2h̄eᵢ) − 2f(x + h̄eᵢ) + 2f(x − h̄eᵢ) − f(x − 2h̄eᵢ)) / (2h̄³),
-//	h_i  = ∛(3ε_A / |f'''|)
+//	f‴ ≈ (f(x + 2h̄eᵢ) − 2f(x + h̄eᵢ) + 2f(x − h̄eᵢ) − f(x − 2h̄eᵢ)) / (2h̄³),
+//	h_i  = ∛(3ε_A / |f‴|)
 //
-// the interval that minimizes the truncation error h²|f”'|/6 plus the
+// the interval that minimizes the truncation error h²|f‴|/6 plus the
 // rounding error ε_A/h of a central difference (Nocedal & Wright 2006,
 // §8.1, with the third-derivative estimate of the forward interval's
 // procedure of Gill, Murray, Saunders & Wright 1983 carried one order
-// up). An estimate below its rounding noise 3ε_A/h̄³ is replaced by that
-// noise, and h_i is kept within [√u·s, h̄]. It costs four objective calls
-// per unknown.
+// up), with ε_A from minPlateDecreaseNoiseLevel and the probes' slopes. An estimate below
+// its rounding noise 3ε_A/h̄³ is replaced by that noise, and h_i is kept
+// within [64u·s, h̄]. It costs four objective calls per unknown.
 func minPlateDecreaseCalibrate(x *[2]float32, fx float32, diffs *minPlateDecreaseDifferences, budget int) (int, bool) {
 	probe := *x
-	calls := 0
+	var slope [2]float32
+	scale := minPlateDecreaseAbs(fx)
 	quarter := minPlateDecreaseSquareRoot(minPlateDecreaseSquareRoot(minPlateDecreaseUnitRoundoff)) // u^(1/4)
 	for i := range probe {
-		xi := probe[i]
-		s := minPlateDecreaseLarger(1, minPlateDecreaseAbs(xi))
-		bar := quarter * s
-		if calls+4 > budget {
-			return calls, false
+		if 4*(i+1) > budget {
+			return 4 * i, false
 		}
+		xi := probe[i]
+		bar := quarter * minPlateDecreaseLarger(1, minPlateDecreaseAbs(xi))
 		var f [4]float32
 		for k, m := range [4]float32{2, 1, -1, -2} {
 			probe[i], _ = minPlateDecreaseProbeStep(xi, m*bar)
 			f[k] = Plate(&probe)
+			scale = minPlateDecreaseLarger(scale, minPlateDecreaseMagnitude(f[k]))
 		}
 		probe[i] = xi
-		calls += 4
-		noise := minPlateDecreaseNoiseLevel(minPlateDecreaseLarger(minPlateDecreaseLarger(minPlateDecreaseAbs(fx), minPlateDecreaseMagnitude(f[0])), minPlateDecreaseLarger(minPlateDecreaseLarger(minPlateDecreaseMagnitude(f[1]), minPlateDecreaseMagnitude(f[2])), minPlateDecreaseMagnitude(f[3]))))
-		third := float32(0)
 		if minPlateDecreaseFinite(f[0]) && minPlateDecreaseFinite(f[1]) && minPlateDecreaseFinite(f[2]) && minPlateDecreaseFinite(f[3]) {
-			third = minPlateDecreaseAbs(f[0]-2*f[1]+2*f[2]-f[3]) / (2 * bar * bar * bar)
+			diffs.curvature[i] = minPlateDecreaseAbs(f[0]-2*f[1]+2*f[2]-f[3]) / (2 * bar * bar * bar)
+			slope[i] = (f[1] - f[2]) / (2 * bar)
 		}
-		third = minPlateDecreaseLarger(third, 3*noise/(bar*bar*bar))
+	}
+	noise := minPlateDecreaseNoiseLevel(x, scale, &slope)
+	for i := range probe {
+		s := minPlateDecreaseLarger(1, minPlateDecreaseAbs(probe[i]))
+		bar := quarter * s
+		third := minPlateDecreaseLarger(diffs.curvature[i], 3*noise/(bar*bar*bar))
 		h := bar
 		if third > 0 {
-			h = minPlateDecreaseCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f'''|/6 + ε_A/h
+			h = minPlateDecreaseCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
 		}
-		diffs.ratio[i] = minPlateDecreaseClampBetween(h, minPlateDecreaseForwardScale*s, bar) / s
+		diffs.ratio[i] = minPlateDecreaseClampBetween(h, 64*minPlateDecreaseUnitRoundoff*s, bar) / s
 		diffs.curvature[i] = third
 	}
-	return calls, true
+	return 4 * len(probe), true
+}
+
+// minPlateDecreaseAbs returns |v|.
+func minPlateDecreaseAbs(v float32) float32 {
+	if v < 0 {
+		return -v
+	}
+	return v
 }
 
 // minPlateDecreaseSquareRoot returns √v.
@@ -407,25 +442,10 @@ func minPlateDecreaseLarger(a, b float32) float32 {
 	return b
 }
 
-// minPlateDecreaseAbs returns |v|.
-func minPlateDecreaseAbs(v float32) float32 {
-	if v < 0 {
-		return -v
-	}
-	return v
-}
-
 // minPlateDecreaseProbeStep returns x_i moved by h, and the step actually representable.
 func minPlateDecreaseProbeStep(xi, h float32) (float32, float32) {
 	moved := xi + h
 	return moved, moved - xi
-}
-
-// minPlateDecreaseNoiseLevel is the absolute error assumed in a computed value fx of the
-// objective, ε_A = 4u·|fx|: a few roundings of the result (common
-// practice; Gill, Murray, Saunders & Wright 1983 leave ε_A to the user).
-func minPlateDecreaseNoiseLevel(fx float32) float32 {
-	return 4 * minPlateDecreaseUnitRoundoff * minPlateDecreaseAbs(fx)
 }
 
 // minPlateDecreaseMagnitude is |v| for a finite v and 0 otherwise: a probe that fell
@@ -435,6 +455,25 @@ func minPlateDecreaseMagnitude(v float32) float32 {
 		return 0
 	}
 	return minPlateDecreaseAbs(v)
+}
+
+// minPlateDecreaseNoiseLevel is the absolute error assumed in a computed value fx of the
+// objective at x, where its gradient is about g:
+//
+//	ε_A = 4u·(|fx| + Σᵢ |gᵢ·xᵢ|),
+//
+// a few roundings of the result plus the change that rounding each xᵢ by
+// a relative u makes in f, which is what an objective computed with
+// cancellation inside (y − x² in Rosenbrock's valley) shows near a zero
+// minimum, where u·|f| alone vanishes (the first-order error of
+// evaluating f at a rounded x; the factor 4 is common practice; Gill,
+// Murray, Saunders & Wright 1983 leave ε_A to the user).
+func minPlateDecreaseNoiseLevel(x *[2]float32, fx float32, g *[2]float32) float32 {
+	sum := minPlateDecreaseAbs(fx)
+	for i := range x {
+		sum += minPlateDecreaseAbs(g[i] * x[i])
+	}
+	return 4 * minPlateDecreaseUnitRoundoff * sum
 }
 
 // minPlateDecreaseCubeRoot returns ∛v for v ≥ 0.
@@ -517,11 +556,11 @@ func minPlateDecreaseScaledTrial(t, slope, now float32) float32 {
 }
 
 // minPlateDecreaseGradientError bounds each central difference's error by twice its
-// truncation h²|f”'|/6 plus rounding ε_A/h, with f”' from the last
-// calibration and ε_A at fx (Nocedal & Wright 2006, §8.1; the factor 2 as
+// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
 // in forwardError).
-func minPlateDecreaseGradientError(x *[2]float32, fx float32, e *[2]float32, diffs *minPlateDecreaseDifferences) {
-	noise := minPlateDecreaseNoiseLevel(fx)
+func minPlateDecreaseGradientError(x *[2]float32, fx float32, g, e *[2]float32, diffs *minPlateDecreaseDifferences) {
+	noise := minPlateDecreaseNoiseLevel(x, fx, g)
 	for i := range e {
 		h := diffs.ratio[i] * minPlateDecreaseLarger(1, minPlateDecreaseAbs(x[i]))
 		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
@@ -572,7 +611,7 @@ func minPlateDecreaseConfirmGradient(x *[2]float32, fx float32, g, e *[2]float32
 	var doubled [2]float32
 	minPlateDecreaseDerivative(x, fx, g, diffs)
 	minPlateDecreaseDerivative(x, fx, &doubled, &wide)
-	minPlateDecreaseGradientError(x, fx, e, diffs)
+	minPlateDecreaseGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * minPlateDecreaseAbs(g[i]-doubled[i])
 	}

@@ -133,7 +133,7 @@ const (
 //
 //  1. stop, converged, when the gradient measure (minValleyGradientMeasure, error
 //     bound of differences included) is at most the limit: lim.Gradient,
-//     or ten times the measure of the differences' error bound when that is
+//     or three times the measure of the differences' error bound when that is
 //     larger, so that the limit can be met (the floor the test can see);
 //     differences confirm it first (minValleyConfirmGradient);
 //  2. stop after lim.Iterations accepted steps;
@@ -144,7 +144,9 @@ const (
 //     decrease when f contradicts an analytic gradient (see minValleyRiseTrend);
 //  5. move, refresh the gradient, let the direction learn from the step;
 //  6. stop, stalled, when every |Δx_i| is at most lim.Step·(|x_i| + 1) while
-//     the gradient test still fails.
+//     the gradient test still fails. A stall with differences whose
+//     gradient measure is within ten times their error's measure is
+//     convergence to their accuracy, once confirmed, with that limit.
 //
 // Only step 1 is convergence: the first-order test holds at X. Before
 // every objective call it checks that lim.Evaluations leaves room for it,
@@ -187,12 +189,18 @@ func minValleyMinimize(recv *Valley, x0 [2]float64, lim MinValleyLimits) minVall
 	best := out                                           // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                 // f(x0), and consecutive accepted steps that raised f above it
 	confirmed := false                                    // whether g and e at x come from minValleyConfirmGradient
+	stalled := false                                      // whether the run can make no more progress at x
+	retried := -1                                         // the iteration whose stall was retried with recalibrated differences
 	for {
 		if !confirmed {
-			minValleyGradientError(&x, fx, &e, &diffs)
+			minValleyGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := minValleyGradientMeasure(&g, &e, &x, fx)
-		out.gradient, out.gradientLimit = measure, minValleyLarger(lim.Gradient, 10*floor)
+		margin := float64(3) // the limit differences can be held to, in multiples of their error's measure
+		if stalled {
+			margin = 10
+		}
+		out.gradient, out.gradientLimit = measure, minValleyLarger(lim.Gradient, margin*floor)
 		if out.f <= best.f {
 			best = out
 		}
@@ -214,8 +222,21 @@ func minValleyMinimize(recv *Valley, x0 [2]float64, lim MinValleyLimits) minVall
 			confirmed = true
 			continue
 		}
-		if out.iterations > 0 {
+		if stalled {
+			// The gradient from intervals chosen here is still above the
+			// limit: search once more with it.
+			stalled, retried = false, out.iterations
+		}
+		// A stall with differences whose gradient is within ten times its
+		// error bound's measure of zero is convergence to their accuracy,
+		// once confirmed: no step can show progress below their error.
+		lenient := minValleyDerivativeCost > 0 && retried != out.iterations && measure <= minValleyLarger(lim.Gradient, 10*floor)
+		if out.iterations > 0 && retried != out.iterations {
 			if minValleyStepWithin(&s, &x, lim.Step) {
+				if lenient {
+					stalled, confirmed = true, false
+					continue
+				}
 				return best.ending(MinValleyStalled, out.iterations, out.evaluations)
 			}
 			if rises >= 8 {
@@ -255,6 +276,9 @@ func minValleyMinimize(recv *Valley, x0 [2]float64, lim MinValleyLimits) minVall
 			switch {
 			case found.rising:
 				end = MinValleyNoDecrease
+			case found.end == minValleySearchTiny && lenient:
+				stalled, confirmed = true, false
+				continue
 			case found.end == minValleySearchTiny:
 				end = MinValleyStalled
 			}
@@ -337,8 +361,8 @@ func minValleyFiniteVec(x *[2]float64) bool {
 
 // minValleyDifferences is what the difference gradients learn from the objective
 // at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f”| for
-// forward differences, |f”'| for central ones). The analytic gradient
+// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
+// forward differences, |f‴| for central ones). The analytic gradient
 // leaves it unused.
 type minValleyDifferences struct {
 	ratio     [2]float64
@@ -472,7 +496,7 @@ func minValleyCurvatureSafe(s, y *[2]float64) bool {
 
 // minValleyGradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
-func minValleyGradientError(x *[2]float64, fx float64, e *[2]float64, diffs *minValleyDifferences) {
+func minValleyGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *minValleyDifferences) {
 	for i := range e {
 		e[i] = 0
 	}
@@ -540,7 +564,7 @@ func minValleyConfirmGradient(recv *Valley, x *[2]float64, fx float64, g, e *[2]
 	var doubled [2]float64
 	minValleyDerivative(recv, x, fx, g, diffs)
 	minValleyDerivative(recv, x, fx, &doubled, &wide)
-	minValleyGradientError(x, fx, e, diffs)
+	minValleyGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * minValleyAbs(g[i]-doubled[i])
 	}

@@ -128,7 +128,7 @@ const (
 //
 //  1. stop, converged, when the gradient measure (minPlateGradientMeasure, error
 //     bound of differences included) is at most the limit: lim.Gradient,
-//     or ten times the measure of the differences' error bound when that is
+//     or three times the measure of the differences' error bound when that is
 //     larger, so that the limit can be met (the floor the test can see);
 //     differences confirm it first (minPlateConfirmGradient);
 //  2. stop after lim.Iterations accepted steps;
@@ -139,7 +139,9 @@ const (
 //     decrease when f contradicts an analytic gradient (see riseTrend);
 //  5. move, refresh the gradient, let the direction learn from the step;
 //  6. stop, stalled, when every |Δx_i| is at most lim.Step·(|x_i| + 1) while
-//     the gradient test still fails.
+//     the gradient test still fails. A stall with differences whose
+//     gradient measure is within ten times their error's measure is
+//     convergence to their accuracy, once confirmed, with that limit.
 //
 // Only step 1 is convergence: the first-order test holds at X. Before
 // every objective call it checks that lim.Evaluations leaves room for it,
@@ -182,12 +184,18 @@ func minPlateMinimize(x0 [2]float32, lim MinPlateLimits) minPlateOutcome {
 	best := out                                          // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                // f(x0), and consecutive accepted steps that raised f above it
 	confirmed := false                                   // whether g and e at x come from minPlateConfirmGradient
+	stalled := false                                     // whether the run can make no more progress at x
+	retried := -1                                        // the iteration whose stall was retried with recalibrated differences
 	for {
 		if !confirmed {
-			minPlateGradientError(&x, fx, &e, &diffs)
+			minPlateGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := minPlateGradientMeasure(&g, &e, &x, fx)
-		out.gradient, out.gradientLimit = measure, minPlateLarger(lim.Gradient, 10*floor)
+		margin := float32(3) // the limit differences can be held to, in multiples of their error's measure
+		if stalled {
+			margin = 10
+		}
+		out.gradient, out.gradientLimit = measure, minPlateLarger(lim.Gradient, margin*floor)
 		if out.f <= best.f {
 			best = out
 		}
@@ -209,8 +217,21 @@ func minPlateMinimize(x0 [2]float32, lim MinPlateLimits) minPlateOutcome {
 			confirmed = true
 			continue
 		}
-		if out.iterations > 0 {
+		if stalled {
+			// The gradient from intervals chosen here is still above the
+			// limit: search once more with it.
+			stalled, retried = false, out.iterations
+		}
+		// A stall with differences whose gradient is within ten times its
+		// error bound's measure of zero is convergence to their accuracy,
+		// once confirmed: no step can show progress below their error.
+		lenient := minPlateDerivativeCost > 0 && retried != out.iterations && measure <= minPlateLarger(lim.Gradient, 10*floor)
+		if out.iterations > 0 && retried != out.iterations {
 			if minPlateStepWithin(&s, &x, lim.Step) {
+				if lenient {
+					stalled, confirmed = true, false
+					continue
+				}
 				return best.ending(MinPlateStalled, out.iterations, out.evaluations)
 			}
 			if rises >= 8 {
@@ -250,6 +271,9 @@ func minPlateMinimize(x0 [2]float32, lim MinPlateLimits) minPlateOutcome {
 			switch {
 			case found.rising:
 				end = MinPlateNoDecrease
+			case found.end == minPlateSearchTiny && lenient:
+				stalled, confirmed = true, false
+				continue
 			case found.end == minPlateSearchTiny:
 				end = MinPlateStalled
 			}
@@ -332,8 +356,8 @@ func minPlateFiniteVec(x *[2]float32) bool {
 
 // minPlateDifferences is what the difference gradients learn from the objective
 // at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f”| for
-// forward differences, |f”'| for central ones). The analytic gradient
+// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
+// forward differences, |f‴| for central ones). The analytic gradient
 // leaves it unused.
 type minPlateDifferences struct {
 	ratio     [2]float32
@@ -388,7 +412,7 @@ func minPlateScaledTrial(t, slope, now float32) float32 {
 
 // minPlateGradientError: the analytic gradient is taken as exact; its error is
 // the user's to check (the generated test compares it with differences).
-func minPlateGradientError(x *[2]float32, fx float32, e *[2]float32, diffs *minPlateDifferences) {
+func minPlateGradientError(x *[2]float32, fx float32, g, e *[2]float32, diffs *minPlateDifferences) {
 	for i := range e {
 		e[i] = 0
 	}
@@ -456,7 +480,7 @@ func minPlateConfirmGradient(x *[2]float32, fx float32, g, e *[2]float32, diffs 
 	var doubled [2]float32
 	minPlateDerivative(x, fx, g, diffs)
 	minPlateDerivative(x, fx, &doubled, &wide)
-	minPlateGradientError(x, fx, e, diffs)
+	minPlateGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * minPlateAbs(g[i]-doubled[i])
 	}
