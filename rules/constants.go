@@ -28,9 +28,6 @@ var Constants = []*Constant{
 		}
 		return "0x1.fffffffffffffp1023"
 	}},
-	{"forwardScale", "√u, forward-difference step scale (Nocedal & Wright 2006, §8.1)", func(c *Context) string {
-		return FormatFloat(math.Sqrt(Roundoff(c.Elem)))
-	}},
 	{"centralScale", "∛u, central-difference step scale (Nocedal & Wright 2006, §8.1)", func(c *Context) string {
 		return FormatFloat(math.Cbrt(Roundoff(c.Elem)))
 	}},

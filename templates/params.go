@@ -9,9 +9,8 @@ const (
 	stepCurvature = 0.9  // curvature constant c2 (Wolfe rules)
 	stepTrials    = 40   // objective calls allowed in one line search
 
-	// Finite-difference steps relative to max(1, |x_i|): √u and ∛u for the
-	// unit roundoff u = 2⁻⁵³ of float64 (Nocedal & Wright 2006, §8.1).
-	forwardScale = 1.0536712127723509e-08
+	// ∛u for the unit roundoff u = 2⁻⁵³ of float64, the scale of the probe
+	// the forward-difference calibration takes (Nocedal & Wright 2006, §8.1).
 	centralScale = 4.806217383937352e-06
 	unitRoundoff = 0x1p-53 // u of float64
 
