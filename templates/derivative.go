@@ -10,6 +10,7 @@ import "math"
 type differences struct {
 	ratio     vec
 	curvature vec
+	second    vec // |f″| along e_i, for the rounding floor of a stall (see roundingFloor)
 }
 
 // derivative fills g with the gradient at x, where fx = f(x). It stands in
@@ -164,6 +165,7 @@ func calibrateForward(recv *receiver, x *vec, fx elem, diffs *differences, budge
 		}
 		diffs.ratio[i] = clampBetween(h, 64*unitRoundoff*s, bar) / s
 		diffs.curvature[i] = second
+		diffs.second[i] = second
 	}
 	return 2 * len(probe), true
 }
@@ -202,6 +204,7 @@ func calibrateCentral(recv *receiver, x *vec, fx elem, diffs *differences, budge
 		probe[i] = xi
 		if finite(f[0]) && finite(f[1]) && finite(f[2]) && finite(f[3]) {
 			diffs.curvature[i] = abs(f[0]-2*f[1]+2*f[2]-f[3]) / (2 * bar * bar * bar)
+			diffs.second[i] = abs(f[1]-2*fx+f[2]) / (bar * bar)
 			slope[i] = (f[1] - f[2]) / (2 * bar)
 		}
 	}
@@ -318,4 +321,52 @@ func confirmGradient(recv *receiver, x *vec, fx elem, g, e *vec, diffs *differen
 		e[i] += 3 * abs(g[i]-doubled[i])
 	}
 	return calls + 2*derivativeCost, true
+}
+
+// diagonalCurvature fills h with |∂²f/∂xᵢ²| at x, where the gradient is g,
+// for the rounding floor of a stall (see roundingFloor). It stands in for
+// the source the spec chose; gen keeps only that one under this name.
+func diagonalCurvature(recv *receiver, x, g *vec, diffs *differences, h *vec) {
+	if derivativeSource == sourceAnalytic {
+		probedCurvature(recv, x, g, diffs, h)
+		return
+	}
+	calibratedCurvature(recv, x, g, diffs, h)
+}
+
+// probedCurvature estimates each |∂²f/∂xᵢ²| from the analytic gradient
+// at x + δᵢeᵢ, δᵢ = √u·max(1, |xᵢ|): dim gradient calls and no objective
+// call (a forward difference of the gradient, Nocedal & Wright 2006,
+// §8.1).
+func probedCurvature(recv *receiver, x, g *vec, diffs *differences, h *vec) {
+	probe := *x
+	var moved vec
+	for i := range probe {
+		xi := probe[i]
+		up, delta := probeStep(xi, squareRoot(unitRoundoff)*larger(1, abs(xi)))
+		probe[i] = up
+		recv.gradient(&probe, &moved)
+		h[i] = abs(moved[i]-g[i]) / delta
+		probe[i] = xi
+	}
+}
+
+// calibratedCurvature takes each |f″| along eᵢ from the differences' last
+// calibration, which confirmGradient has just made at x.
+func calibratedCurvature(recv *receiver, x, g *vec, diffs *differences, h *vec) {
+	*h = diffs.second
+}
+
+// roundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
+// that moving xᵢ by a few of its rounding units makes in gᵢ:
+// where no step the step test resolves decreases f, a gradient that small
+// is zero to the rounding of x (the resolution of x in floating point,
+// common practice). It is added only at a stall, so a gradient far above
+// it still ends the run as stalled.
+func roundingFloor(recv *receiver, x, g, e *vec, diffs *differences) {
+	var h vec
+	diagonalCurvature(recv, x, g, diffs, &h)
+	for i := range e {
+		e[i] += 4 * unitRoundoff * abs(x[i]) * h[i]
+	}
 }

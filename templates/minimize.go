@@ -29,9 +29,12 @@ type outcome struct {
 //     decrease when f contradicts an analytic gradient (see riseTrend);
 //  5. move, refresh the gradient, let the direction learn from the step;
 //  6. stop, stalled, when every |Δx_i| is at most lim.Step·(|x_i| + 1) while
-//     the gradient test still fails. A stall with differences whose
-//     gradient measure is within ten times their error's measure is
-//     convergence to their accuracy, once confirmed, with that limit.
+//     the gradient test still fails. At a stall the run settles first
+//     (settle): the error bound gains the rounding floor of x, with
+//     differences confirmed, and the limit rises to ten times the larger
+//     of lim.Gradient and the bound's measure; a gradient within that is
+//     as small as this point can show, and the run is converged with that
+//     limit, which it reports.
 //
 // Only step 1 is convergence: the first-order test holds at X. Before
 // every objective call it checks that lim.Evaluations leaves room for it,
@@ -82,11 +85,12 @@ func minimize(recv *receiver, x0 vec, lim limits) outcome {
 			gradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := gradientMeasure(&g, &e, &x, fx)
-		margin := elem(3) // the limit differences can be held to, in multiples of their error's measure
+		out.gradient, out.gradientLimit = measure, larger(lim.Gradient, 3*floor)
 		if stalled {
-			margin = 10
+			// No step can make progress here: the gradient is as small as
+			// this point shows it, within ten times the limit or the floor.
+			out.gradientLimit = 10 * larger(lim.Gradient, floor)
 		}
-		out.gradient, out.gradientLimit = measure, larger(lim.Gradient, margin*floor)
 		if out.f <= best.f {
 			best = out
 		}
@@ -109,21 +113,30 @@ func minimize(recv *receiver, x0 vec, lim limits) outcome {
 			continue
 		}
 		if stalled {
-			// The gradient from intervals chosen here is still above the
-			// limit: search once more with it.
+			// Settled and still above the limit: stalled, unless
+			// differences, whose intervals were just chosen here, can
+			// search once more with the better gradient.
+			if derivativeCost == 0 {
+				return best.ending(statusStalled, out.iterations, out.evaluations)
+			}
 			stalled, retried = false, out.iterations
 		}
-		// A stall with differences whose gradient is within ten times its
-		// error bound's measure of zero is convergence to their accuracy,
-		// once confirmed: no step can show progress below their error.
-		lenient := derivativeCost > 0 && retried != out.iterations && measure <= larger(lim.Gradient, 10*floor)
-		if out.iterations > 0 && retried != out.iterations {
+		// At a stall, settle first: the run is converged if the gradient
+		// is zero to the rounding of x (and, with differences, to their
+		// accuracy, confirmed); see settle.
+		canSettle := retried != out.iterations
+		if out.iterations > 0 && canSettle {
 			if stepWithin(&s, &x, lim.Step) {
-				if lenient {
-					stalled, confirmed = true, false
-					continue
+				calls, ok := settle(recv, &x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+				out.evaluations += calls
+				if !ok {
+					return best.ending(statusOutOfEvaluations, out.iterations, out.evaluations)
 				}
-				return best.ending(statusStalled, out.iterations, out.evaluations)
+				if !finiteVec(&g) {
+					return best.ending(statusNonFiniteGradient, out.iterations, out.evaluations)
+				}
+				stalled, confirmed = true, true
+				continue
 			}
 			if rises >= 8 {
 				return best.ending(statusDiverged, out.iterations, out.evaluations)
@@ -162,8 +175,16 @@ func minimize(recv *receiver, x0 vec, lim limits) outcome {
 			switch {
 			case found.rising:
 				end = statusNoDecrease
-			case found.end == searchTiny && lenient:
-				stalled, confirmed = true, false
+			case found.end == searchTiny && canSettle:
+				calls, ok := settle(recv, &x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+				out.evaluations += calls
+				if !ok {
+					return best.ending(statusOutOfEvaluations, out.iterations, out.evaluations)
+				}
+				if !finiteVec(&g) {
+					return best.ending(statusNonFiniteGradient, out.iterations, out.evaluations)
+				}
+				stalled, confirmed = true, true
 				continue
 			case found.end == searchTiny:
 				end = statusStalled
@@ -210,4 +231,21 @@ func minimize(recv *receiver, x0 vec, lim limits) outcome {
 func (o outcome) ending(end status, iterations, evaluations int) outcome {
 	o.status, o.iterations, o.evaluations = end, iterations, evaluations
 	return o
+}
+
+// settle prepares the final verdict at a stall: with differences it
+// confirms the gradient (confirmGradient), then it adds to each error
+// bound the rounding floor of x (roundingFloor). It returns the objective
+// calls spent and false when budget ran out first.
+func settle(recv *receiver, x *vec, fx elem, g, e *vec, diffs *differences, budget int) (int, bool) {
+	calls := 0
+	if derivativeCost > 0 {
+		spent, ok := confirmGradient(recv, x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
+	}
+	roundingFloor(recv, x, g, e, diffs)
+	return calls, true
 }

@@ -15,17 +15,21 @@ import (
 	"github.com/thalweg-go/thalweg/internal/targets"
 )
 
-// Representative are the MGH problems run on every target: 16 of the 20
-// instances, dimensions 2 to 10, zero and nonzero minima, the two badly
-// scaled ones, a singular Hessian, exp and trigonometric terms (math.Exp
-// and math.Sin are assembly on some targets and pure Go on others). Left
-// out for time, since under soft-float GOARM=5 emulation each takes
-// minutes: Gulf R&D (99 residuals of math.Pow, most of even the native run
-// time), Biggs EXP6 (its generated tests alone took 8 minutes there),
-// Watson 9 and Penalty II 10 (thousands of iterations).
+// Representative are the MGH problems run on every target: 13 of the 20
+// instances, dimensions 2 to 10, zero and nonzero minima, a singular
+// Hessian, exp and trigonometric terms (math.Exp and math.Sin are assembly
+// on some targets and pure Go on others). Left out for time, since under
+// soft-float GOARM=5 emulation each takes minutes: Gulf R&D (99 residuals
+// of math.Pow, most of even the native run time), Biggs EXP6 (its
+// generated tests alone took 8 minutes there), Watson 9 and Penalty II 10
+// (thousands of iterations). Left out because a run of theirs ends within
+// a few percent of a stop test's threshold on linux/amd64 (see the
+// exclusions in ../mgh), so that the last bits that differ between
+// targets may decide it either way: Powell and Brown badly scaled,
+// Watson 6.
 var Representative = []string{
-	"Rosenbrock", "PowellBadlyScaled", "BrownBadlyScaled", "Beale", "HelicalValley", "Gaussian", "Box3D",
-	"PowellSingular", "Wood", "BrownDennis", "Watson6", "PenaltyI4", "PenaltyI10", "PenaltyII4",
+	"Rosenbrock", "Beale", "HelicalValley", "Gaussian", "Box3D",
+	"PowellSingular", "Wood", "BrownDennis", "PenaltyI4", "PenaltyI10", "PenaltyII4",
 	"VariablyDimensioned10", "Trigonometric10",
 }
 

@@ -8,10 +8,10 @@ import "math"
 type ConcaveLeftWolfeNWAlphaE1Status uint8
 
 const (
-	// ConcaveLeftWolfeNWAlphaE1GradientSmall: the largest gradient component fell to the gradient limit: converged.
+	// ConcaveLeftWolfeNWAlphaE1GradientSmall: the gradient test holds at X: its measure, with the differences' error bound when they are used, is at most the gradient limit: converged.
 	ConcaveLeftWolfeNWAlphaE1GradientSmall ConcaveLeftWolfeNWAlphaE1Status = iota + 1
-	// ConcaveLeftWolfeNWAlphaE1StepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f: converged.
-	ConcaveLeftWolfeNWAlphaE1StepTiny
+	// ConcaveLeftWolfeNWAlphaE1Stalled: the step test ended the run, or no step longer than the step limit decreased f, while the gradient test still fails: X is as far as the run could get, not a verified minimizer.
+	ConcaveLeftWolfeNWAlphaE1Stalled
 	// ConcaveLeftWolfeNWAlphaE1OutOfIterations: the iteration limit came first.
 	ConcaveLeftWolfeNWAlphaE1OutOfIterations
 	// ConcaveLeftWolfeNWAlphaE1OutOfEvaluations: the next objective call would have exceeded the evaluation cap.
@@ -22,8 +22,10 @@ const (
 	ConcaveLeftWolfeNWAlphaE1NonFiniteStart
 	// ConcaveLeftWolfeNWAlphaE1NonFiniteGradient: a gradient component became NaN or ±Inf.
 	ConcaveLeftWolfeNWAlphaE1NonFiniteGradient
-	// ConcaveLeftWolfeNWAlphaE1NoDecrease: no step longer than the step limit decreased f, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test).
+	// ConcaveLeftWolfeNWAlphaE1NoDecrease: the line search found no acceptable step, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test).
 	ConcaveLeftWolfeNWAlphaE1NoDecrease
+	// ConcaveLeftWolfeNWAlphaE1Diverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
+	ConcaveLeftWolfeNWAlphaE1Diverged
 )
 
 // String describes the status in a few words.
@@ -31,8 +33,8 @@ func (s ConcaveLeftWolfeNWAlphaE1Status) String() string {
 	switch s {
 	case ConcaveLeftWolfeNWAlphaE1GradientSmall:
 		return "gradient small"
-	case ConcaveLeftWolfeNWAlphaE1StepTiny:
-		return "step tiny"
+	case ConcaveLeftWolfeNWAlphaE1Stalled:
+		return "stalled"
 	case ConcaveLeftWolfeNWAlphaE1OutOfIterations:
 		return "out of iterations"
 	case ConcaveLeftWolfeNWAlphaE1OutOfEvaluations:
@@ -45,28 +47,32 @@ func (s ConcaveLeftWolfeNWAlphaE1Status) String() string {
 		return "non-finite gradient"
 	case ConcaveLeftWolfeNWAlphaE1NoDecrease:
 		return "no decrease"
+	case ConcaveLeftWolfeNWAlphaE1Diverged:
+		return "diverged"
 	default:
 		return "unknown status"
 	}
 }
 
-// Converged reports whether a convergence test, on the gradient or on the step, ended the run; limits, line-search failure and non-finite values are not convergence.
+// Converged reports whether the gradient test holds at X (Gradient ≤ GradientLimit in the result): only then is X a verified stationary point; a stall, the limits, line-search failure and non-finite values are not convergence.
 func (s ConcaveLeftWolfeNWAlphaE1Status) Converged() bool {
-	return s == ConcaveLeftWolfeNWAlphaE1GradientSmall || s == ConcaveLeftWolfeNWAlphaE1StepTiny
+	return s == ConcaveLeftWolfeNWAlphaE1GradientSmall
 }
 
 // ConcaveLeftWolfeNWAlphaE1Result is where ConcaveLeftWolfeNWAlphaE1 stopped and why.
 type ConcaveLeftWolfeNWAlphaE1Result struct {
-	X           float64                         // the last accepted point, the best one found
-	F           float64                         // the objective at X
-	Iterations  int                             // accepted steps
-	Evaluations int                             // objective calls, finite differences included
-	Status      ConcaveLeftWolfeNWAlphaE1Status // why the run stopped; check Status.Converged()
+	X             float64                         // where the gradient test held, when converged; else the lowest point seen
+	F             float64                         // the objective at X
+	Gradient      float64                         // the gradient test's measure at X, the differences' error bound included; NaN when the run ended before the gradient at X was known
+	GradientLimit float64                         // the limit Gradient was held to: Limits.Gradient, raised with differences to ten times the measure of their error bound; converged runs have Gradient ≤ GradientLimit
+	Iterations    int                             // accepted steps
+	Evaluations   int                             // objective calls, finite differences included
+	Status        ConcaveLeftWolfeNWAlphaE1Status // why the run stopped; check Status.Converged()
 }
 
 // ConcaveLeftWolfeNWAlphaE1Limits are the stop limits of one run. Pass them to ConcaveLeftWolfeNWAlphaE1WithLimits to change them at run time; ConcaveLeftWolfeNWAlphaE1DefaultLimits returns the spec's.
 type ConcaveLeftWolfeNWAlphaE1Limits struct {
-	Gradient    float64 // stop when the largest |∂f/∂xᵢ| is at most this
+	Gradient    float64 // stop, converged, when the gradient test's measure is at most this (with differences, at most ten times the measure of their error bound where that is larger)
 	Step        float64 // stop when every |Δxᵢ| is at most this·(|xᵢ| + 1)
 	Iterations  int     // most accepted steps
 	Evaluations int     // hard cap on objective calls, finite differences included; never exceeded
@@ -75,9 +81,9 @@ type ConcaveLeftWolfeNWAlphaE1Limits struct {
 // ConcaveLeftWolfeNWAlphaE1DefaultLimits returns the stop limits of linesearch.toml, [minimizer.stop].
 func ConcaveLeftWolfeNWAlphaE1DefaultLimits() ConcaveLeftWolfeNWAlphaE1Limits {
 	return ConcaveLeftWolfeNWAlphaE1Limits{
-		Evaluations: 10000,
+		Evaluations: 200000,
 		Gradient:    1e-08,
-		Iterations:  500,
+		Iterations:  5000,
 		Step:        1e-14,
 	}
 }
@@ -87,10 +93,11 @@ func ConcaveLeftWolfeNWAlphaE1DefaultLimits() ConcaveLeftWolfeNWAlphaE1Limits {
 // Direction steepest: steepest descent, d = −∇f; no memory, linear convergence.
 // Step rule wolfe: bracket and zoom until sufficient decrease and the curvature condition hold.
 // Derivative analytic: the user's own gradient function (spec key `gradient`); costs no objective calls.
+// Gradient test relative: max over i of (|∂f/∂xᵢ| + eᵢ)·max(|xᵢ|, 1)/max(|f(x)|, 1), eᵢ the error bound of differences (0 for an analytic gradient).
 // Constants: initial 1.958020050125313e+07, c1 0.0001, c2 0.9, at most 72 trials per line search.
-// Default stop: largest gradient component ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 500 iterations, 10000 objective calls.
+// Default stop: gradient measure ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
 //
-// Worst case: 10000 objective calls (the evaluation cap; the iteration limit alone would allow 36001). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
+// Worst case: 200000 objective calls (the evaluation cap; the iteration limit alone would allow 360073). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
 func ConcaveLeftWolfeNWAlphaE1(x0 float64) ConcaveLeftWolfeNWAlphaE1Result {
 	return ConcaveLeftWolfeNWAlphaE1WithLimits(x0, ConcaveLeftWolfeNWAlphaE1DefaultLimits())
@@ -100,11 +107,13 @@ func ConcaveLeftWolfeNWAlphaE1(x0 float64) ConcaveLeftWolfeNWAlphaE1Result {
 func ConcaveLeftWolfeNWAlphaE1WithLimits(x0 float64, limits ConcaveLeftWolfeNWAlphaE1Limits) ConcaveLeftWolfeNWAlphaE1Result {
 	out := concaveLeftWolfeNWAlphaE1Minimize([1]float64{x0}, limits)
 	return ConcaveLeftWolfeNWAlphaE1Result{
-		Evaluations: out.evaluations,
-		F:           out.f,
-		Iterations:  out.iterations,
-		Status:      out.status,
-		X:           out.x[0],
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x[0],
 	}
 }
 
@@ -121,22 +130,36 @@ const (
 
 // concaveLeftWolfeNWAlphaE1Minimize runs the descent loop from x0 within lim:
 //
-//  1. stop when the largest gradient component is at most lim.Gradient;
+//  1. stop, converged, when the gradient measure (concaveLeftWolfeNWAlphaE1GradientMeasure, error
+//     bound of differences included) is at most the limit: lim.Gradient,
+//     or three times the measure of the differences' error bound when that is
+//     larger, so that the limit can be met (the floor the test can see);
+//     differences confirm it first (concaveLeftWolfeNWAlphaE1ConfirmGradient);
 //  2. stop after lim.Iterations accepted steps;
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
-//  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged,
-//     unless f contradicts an analytic gradient: no decrease);
+//  4. search along d; stop when no trial is acceptable or only steps
+//     shorter than the step limit are left to try: stalled, or no
+//     decrease when f contradicts an analytic gradient (see concaveLeftWolfeNWAlphaE1RiseTrend);
 //  5. move, refresh the gradient, let the direction learn from the step;
-//  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
+//  6. stop, stalled, when every |Δx_i| is at most lim.Step·(|x_i| + 1) while
+//     the gradient test still fails. At a stall the run settles first
+//     (settle): the error bound gains the rounding floor of x, with
+//     differences confirmed, and the limit rises to ten times the larger
+//     of lim.Gradient and the bound's measure; a gradient within that is
+//     as small as this point can show, and the run is converged with that
+//     limit, which it reports.
 //
-// Before every objective call it checks that lim.Evaluations leaves room
-// for it, so the cap is never exceeded. A NaN or ±Inf at the start or in a
+// Only step 1 is convergence: the first-order test holds at X. Before
+// every objective call it checks that lim.Evaluations leaves room for it,
+// so the cap is never exceeded. A NaN or ±Inf at the start or in a
 // gradient ends the run with its own status; a non-finite trial value is
-// rejected by the line search like any failed trial.
+// rejected by the line search like any failed trial. X is the best point
+// seen unless the run converged, which it did at X. A fixed step whose
+// value overflows, or that raised f above f(x0) at eight steps in a row,
+// ends the run as diverged (common practice for a divergence test).
 func concaveLeftWolfeNWAlphaE1Minimize(x0 [1]float64, lim ConcaveLeftWolfeNWAlphaE1Limits) concaveLeftWolfeNWAlphaE1Outcome {
-	out := concaveLeftWolfeNWAlphaE1Outcome{x: x0, status: ConcaveLeftWolfeNWAlphaE1OutOfEvaluations}
+	out := concaveLeftWolfeNWAlphaE1Outcome{x: x0, status: ConcaveLeftWolfeNWAlphaE1OutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
@@ -147,11 +170,14 @@ func concaveLeftWolfeNWAlphaE1Minimize(x0 [1]float64, lim ConcaveLeftWolfeNWAlph
 		out.status = ConcaveLeftWolfeNWAlphaE1NonFiniteStart
 		return out
 	}
-	if out.evaluations+concaveLeftWolfeNWAlphaE1DerivativeCost > lim.Evaluations {
+	var diffs concaveLeftWolfeNWAlphaE1Differences
+	calls, ok := concaveLeftWolfeNWAlphaE1Calibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
+	out.evaluations += calls
+	if !ok || out.evaluations+concaveLeftWolfeNWAlphaE1DerivativeCost > lim.Evaluations {
 		return out
 	}
-	var g [1]float64
-	concaveLeftWolfeNWAlphaE1Derivative(&x, fx, &g)
+	var g, e [1]float64
+	concaveLeftWolfeNWAlphaE1Derivative(&x, fx, &g, &diffs)
 	out.evaluations += concaveLeftWolfeNWAlphaE1DerivativeCost
 
 	if !concaveLeftWolfeNWAlphaE1FiniteVec(&g) {
@@ -162,21 +188,76 @@ func concaveLeftWolfeNWAlphaE1Minimize(x0 [1]float64, lim ConcaveLeftWolfeNWAlph
 	dir.reset()
 	var d, xt, gt, s, y [1]float64
 	t, slope := float64(concaveLeftWolfeNWAlphaE1StepInitial), float64(0) // the previous iteration's accepted step and slope
+	best := out                                                           // the lowest point seen, for runs that end unconverged
+	start, rises := fx, 0                                                 // f(x0), and consecutive accepted steps that raised f above it
+	confirmed := false                                                    // whether g and e at x come from concaveLeftWolfeNWAlphaE1ConfirmGradient
+	stalled := false                                                      // whether the run can make no more progress at x
+	retried := -1                                                         // the iteration whose stall was retried with recalibrated differences
 	for {
-		if concaveLeftWolfeNWAlphaE1MaxAbs(&g) <= lim.Gradient {
+		if !confirmed {
+			concaveLeftWolfeNWAlphaE1GradientError(&x, fx, &g, &e, &diffs)
+		}
+		measure, floor := concaveLeftWolfeNWAlphaE1GradientMeasure(&g, &e, &x, fx)
+		out.gradient, out.gradientLimit = measure, concaveLeftWolfeNWAlphaE1Larger(lim.Gradient, 3*floor)
+		if stalled {
+			// No step can make progress here: the gradient is as small as
+			// this point shows it, within ten times the limit or the floor.
+			out.gradientLimit = 10 * concaveLeftWolfeNWAlphaE1Larger(lim.Gradient, floor)
+		}
+		if out.f <= best.f {
+			best = out
+		}
+		if measure <= out.gradientLimit && (concaveLeftWolfeNWAlphaE1DerivativeCost == 0 || confirmed) {
 			out.status = ConcaveLeftWolfeNWAlphaE1GradientSmall
 			return out
 		}
-		if out.iterations > 0 {
+		if measure <= out.gradientLimit {
+			// Differences pass the test: confirm it with intervals chosen
+			// here and an error measured rather than modelled.
+			calls, ok := concaveLeftWolfeNWAlphaE1ConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(ConcaveLeftWolfeNWAlphaE1OutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !concaveLeftWolfeNWAlphaE1FiniteVec(&g) {
+				return best.ending(ConcaveLeftWolfeNWAlphaE1NonFiniteGradient, out.iterations, out.evaluations)
+			}
+			confirmed = true
+			continue
+		}
+		if stalled {
+			// Settled and still above the limit: stalled, unless
+			// differences, whose intervals were just chosen here, can
+			// search once more with the better gradient.
+			if concaveLeftWolfeNWAlphaE1DerivativeCost == 0 {
+				return best.ending(ConcaveLeftWolfeNWAlphaE1Stalled, out.iterations, out.evaluations)
+			}
+			stalled, retried = false, out.iterations
+		}
+		// At a stall, settle first: the run is converged if the gradient
+		// is zero to the rounding of x (and, with differences, to their
+		// accuracy, confirmed); see settle.
+		canSettle := retried != out.iterations
+		if out.iterations > 0 && canSettle {
 			if concaveLeftWolfeNWAlphaE1StepWithin(&s, &x, lim.Step) {
-				out.status = ConcaveLeftWolfeNWAlphaE1StepTiny
-				return out
+				calls, ok := concaveLeftWolfeNWAlphaE1Settle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+				out.evaluations += calls
+				if !ok {
+					return best.ending(ConcaveLeftWolfeNWAlphaE1OutOfEvaluations, out.iterations, out.evaluations)
+				}
+				if !concaveLeftWolfeNWAlphaE1FiniteVec(&g) {
+					return best.ending(ConcaveLeftWolfeNWAlphaE1NonFiniteGradient, out.iterations, out.evaluations)
+				}
+				stalled, confirmed = true, true
+				continue
+			}
+			if rises >= 8 {
+				return best.ending(ConcaveLeftWolfeNWAlphaE1Diverged, out.iterations, out.evaluations)
 			}
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
-			out.status = ConcaveLeftWolfeNWAlphaE1OutOfIterations
-			return out
+			return best.ending(ConcaveLeftWolfeNWAlphaE1OutOfIterations, out.iterations, out.evaluations)
 		}
 		dir.compute(&g, &d)
 		now := concaveLeftWolfeNWAlphaE1Dot(&g, &d)
@@ -190,50 +271,70 @@ func concaveLeftWolfeNWAlphaE1Minimize(x0 [1]float64, lim ConcaveLeftWolfeNWAlph
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := concaveLeftWolfeNWAlphaE1TinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := concaveLeftWolfeNWAlphaE1LineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt)
+		found := concaveLeftWolfeNWAlphaE1LineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case concaveLeftWolfeNWAlphaE1SearchOutOfBudget:
-			return out
-		case concaveLeftWolfeNWAlphaE1SearchExhausted:
-			out.status = ConcaveLeftWolfeNWAlphaE1NoAcceptableStep
-			return out
-		case concaveLeftWolfeNWAlphaE1SearchTiny:
-			// Converged to the step limit: no step the step test would
-			// reject decreases f. Not so when an analytic gradient is
-			// contradicted by f rising in proportion to the step (see
-			// concaveLeftWolfeNWAlphaE1RiseTrend, which never reports that for differences).
-			out.status = ConcaveLeftWolfeNWAlphaE1StepTiny
-			if found.rising {
-				out.status = ConcaveLeftWolfeNWAlphaE1NoDecrease
+			return best.ending(ConcaveLeftWolfeNWAlphaE1OutOfEvaluations, out.iterations, out.evaluations)
+		case concaveLeftWolfeNWAlphaE1SearchDiverged:
+			return best.ending(ConcaveLeftWolfeNWAlphaE1Diverged, out.iterations, out.evaluations)
+		case concaveLeftWolfeNWAlphaE1SearchExhausted, concaveLeftWolfeNWAlphaE1SearchTiny:
+			// No acceptable step. When an analytic gradient predicted a
+			// fall that f contradicted in proportion to the step, the
+			// gradient is probably wrong (see concaveLeftWolfeNWAlphaE1RiseTrend, which never
+			// reports that for differences); otherwise the search stalled
+			// below the step limit, or ran out of trials.
+			end := ConcaveLeftWolfeNWAlphaE1NoAcceptableStep
+			switch {
+			case found.rising:
+				end = ConcaveLeftWolfeNWAlphaE1NoDecrease
+			case found.end == concaveLeftWolfeNWAlphaE1SearchTiny && canSettle:
+				calls, ok := concaveLeftWolfeNWAlphaE1Settle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+				out.evaluations += calls
+				if !ok {
+					return best.ending(ConcaveLeftWolfeNWAlphaE1OutOfEvaluations, out.iterations, out.evaluations)
+				}
+				if !concaveLeftWolfeNWAlphaE1FiniteVec(&g) {
+					return best.ending(ConcaveLeftWolfeNWAlphaE1NonFiniteGradient, out.iterations, out.evaluations)
+				}
+				stalled, confirmed = true, true
+				continue
+			case found.end == concaveLeftWolfeNWAlphaE1SearchTiny:
+				end = ConcaveLeftWolfeNWAlphaE1Stalled
 			}
-			return out
+			return best.ending(end, out.iterations, out.evaluations)
 		}
 		if !concaveLeftWolfeNWAlphaE1FiniteVec(&xt) {
-			out.status = ConcaveLeftWolfeNWAlphaE1NoAcceptableStep // the accepted trial overflowed x
-			return out
+			return best.ending(ConcaveLeftWolfeNWAlphaE1NoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
 		}
 		if !found.gradient {
 			if out.evaluations+concaveLeftWolfeNWAlphaE1DerivativeCost > lim.Evaluations {
-				if found.value < fx { // keep a better point even without its gradient
-					out.x, out.f = xt, found.value
+				if found.value < best.f { // keep a better point even without its gradient
+					best.x, best.f, best.gradient = xt, found.value, math.NaN()
 					out.iterations++
 				}
-				return out
+				return best.ending(ConcaveLeftWolfeNWAlphaE1OutOfEvaluations, out.iterations, out.evaluations)
 			}
-			concaveLeftWolfeNWAlphaE1Derivative(&xt, found.value, &gt)
+			concaveLeftWolfeNWAlphaE1Derivative(&xt, found.value, &gt, &diffs)
 			out.evaluations += concaveLeftWolfeNWAlphaE1DerivativeCost
 		}
 		out.iterations++
 		concaveLeftWolfeNWAlphaE1Difference(&s, &xt, &x)
 		concaveLeftWolfeNWAlphaE1Difference(&y, &gt, &g)
-		x, fx, g = xt, found.value, gt
-		out.x, out.f = x, fx
+		if found.value > fx && found.value > start {
+			rises++
+		} else {
+			rises = 0
+		}
+		x, fx, g, confirmed = xt, found.value, gt, false
+		out.x, out.f, out.gradient = x, fx, math.NaN()
 		t, slope = found.step, now
 
 		if !concaveLeftWolfeNWAlphaE1FiniteVec(&g) {
-			out.status = ConcaveLeftWolfeNWAlphaE1NonFiniteGradient
-			return out
+			if out.f < best.f {
+				best = out
+			}
+			return best.ending(ConcaveLeftWolfeNWAlphaE1NonFiniteGradient, out.iterations, out.evaluations)
 		}
 	}
 }
@@ -241,11 +342,19 @@ func concaveLeftWolfeNWAlphaE1Minimize(x0 [1]float64, lim ConcaveLeftWolfeNWAlph
 // concaveLeftWolfeNWAlphaE1Outcome is the kernel's report; the generated entry point copies it into
 // the spec's result type.
 type concaveLeftWolfeNWAlphaE1Outcome struct {
-	x           [1]float64
-	f           float64
-	iterations  int
-	evaluations int
-	status      ConcaveLeftWolfeNWAlphaE1Status
+	x             [1]float64
+	f             float64
+	gradient      float64 // the stop test's measure at x, error bound included; NaN when not known
+	gradientLimit float64 // the limit that measure was held to
+	iterations    int
+	evaluations   int
+	status        ConcaveLeftWolfeNWAlphaE1Status
+}
+
+// ending is the best point seen, reported with the run's end and counts.
+func (o concaveLeftWolfeNWAlphaE1Outcome) ending(end ConcaveLeftWolfeNWAlphaE1Status, iterations, evaluations int) concaveLeftWolfeNWAlphaE1Outcome {
+	o.status, o.iterations, o.evaluations = end, iterations, evaluations
+	return o
 }
 
 // concaveLeftWolfeNWAlphaE1Finite reports whether v is neither NaN nor ±Inf, by comparing it with
@@ -270,8 +379,24 @@ func concaveLeftWolfeNWAlphaE1FiniteVec(x *[1]float64) bool {
 	return true
 }
 
+// concaveLeftWolfeNWAlphaE1Differences is what the difference gradients learn from the objective
+// at the start: for each coordinate i, the interval as a multiple of
+// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
+// forward differences, |f‴| for central ones). The analytic gradient
+// leaves it unused.
+type concaveLeftWolfeNWAlphaE1Differences struct {
+	ratio     [1]float64
+	curvature [1]float64
+	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see concaveLeftWolfeNWAlphaE1RoundingFloor)
+}
+
+// concaveLeftWolfeNWAlphaE1Calibrate: an analytic gradient needs no intervals.
+func concaveLeftWolfeNWAlphaE1Calibrate(x *[1]float64, fx float64, diffs *concaveLeftWolfeNWAlphaE1Differences, budget int) (int, bool) {
+	return 0, true
+}
+
 // concaveLeftWolfeNWAlphaE1Derivative calls the user's gradient; it costs no objective calls.
-func concaveLeftWolfeNWAlphaE1Derivative(x *[1]float64, fx float64, g *[1]float64) {
+func concaveLeftWolfeNWAlphaE1Derivative(x *[1]float64, fx float64, g *[1]float64, diffs *concaveLeftWolfeNWAlphaE1Differences) {
 	g[0] = ConcaveLeftDeriv(x[0])
 }
 
@@ -311,15 +436,43 @@ func concaveLeftWolfeNWAlphaE1ScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
-// concaveLeftWolfeNWAlphaE1MaxAbs returns the largest |x_i|, the infinity norm.
-func concaveLeftWolfeNWAlphaE1MaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := concaveLeftWolfeNWAlphaE1Abs(x[i]); a > m || a != a {
-			m = a
-		}
+// concaveLeftWolfeNWAlphaE1GradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func concaveLeftWolfeNWAlphaE1GradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *concaveLeftWolfeNWAlphaE1Differences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return m
+}
+
+// concaveLeftWolfeNWAlphaE1GradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func concaveLeftWolfeNWAlphaE1GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
+	scale := concaveLeftWolfeNWAlphaE1Larger(concaveLeftWolfeNWAlphaE1Abs(fx), 1)
+	for i := range g {
+		w := concaveLeftWolfeNWAlphaE1Larger(concaveLeftWolfeNWAlphaE1Abs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = concaveLeftWolfeNWAlphaE1Larger(measure, (concaveLeftWolfeNWAlphaE1Abs(g[i])+e[i])*w)
+		floor = concaveLeftWolfeNWAlphaE1Larger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// concaveLeftWolfeNWAlphaE1Larger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func concaveLeftWolfeNWAlphaE1Larger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
 }
 
 // concaveLeftWolfeNWAlphaE1Abs returns |v|.
@@ -328,6 +481,36 @@ func concaveLeftWolfeNWAlphaE1Abs(v float64) float64 {
 		return -v
 	}
 	return v
+}
+
+// concaveLeftWolfeNWAlphaE1ConfirmGradient recomputes a difference gradient at x before the run is
+// called converged there: it chooses the intervals again from the
+// curvature at x (calibrate), computes g with them and with twice them,
+// and bounds each component's error by the model (concaveLeftWolfeNWAlphaE1GradientError) plus
+// three times the change the doubling made. That change measures what the
+// model can miss, truncation from curvature that varies and rounding
+// noise above 4u·|f|; as one sample of that noise it is tripled
+// (Richardson's idea of comparing two intervals; the factor is common
+// practice for a posteriori error estimates). It costs a calibration and two
+// gradients, and returns the calls spent and false when budget ran out
+// first.
+func concaveLeftWolfeNWAlphaE1ConfirmGradient(x *[1]float64, fx float64, g, e *[1]float64, diffs *concaveLeftWolfeNWAlphaE1Differences, budget int) (int, bool) {
+	calls, ok := concaveLeftWolfeNWAlphaE1Calibrate(x, fx, diffs, budget)
+	if !ok || calls+2*concaveLeftWolfeNWAlphaE1DerivativeCost > budget {
+		return calls, false
+	}
+	wide := *diffs
+	for i := range wide.ratio {
+		wide.ratio[i] *= 2
+	}
+	var doubled [1]float64
+	concaveLeftWolfeNWAlphaE1Derivative(x, fx, g, diffs)
+	concaveLeftWolfeNWAlphaE1Derivative(x, fx, &doubled, &wide)
+	concaveLeftWolfeNWAlphaE1GradientError(x, fx, g, e, diffs)
+	for i := range e {
+		e[i] += 3 * concaveLeftWolfeNWAlphaE1Abs(g[i]-doubled[i])
+	}
+	return calls + 2*concaveLeftWolfeNWAlphaE1DerivativeCost, true
 }
 
 // concaveLeftWolfeNWAlphaE1StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
@@ -340,6 +523,65 @@ func concaveLeftWolfeNWAlphaE1StepWithin(s, x *[1]float64, tol float64) bool {
 		}
 	}
 	return true
+}
+
+// concaveLeftWolfeNWAlphaE1Settle prepares the final verdict at a stall: with differences it
+// confirms the gradient (concaveLeftWolfeNWAlphaE1ConfirmGradient), then it adds to each error
+// bound the rounding floor of x (concaveLeftWolfeNWAlphaE1RoundingFloor). It returns the objective
+// calls spent and false when budget ran out first.
+func concaveLeftWolfeNWAlphaE1Settle(x *[1]float64, fx float64, g, e *[1]float64, diffs *concaveLeftWolfeNWAlphaE1Differences, budget int) (int, bool) {
+	calls := 0
+	if concaveLeftWolfeNWAlphaE1DerivativeCost > 0 {
+		spent, ok := concaveLeftWolfeNWAlphaE1ConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
+	}
+	concaveLeftWolfeNWAlphaE1RoundingFloor(x, g, e, diffs)
+	return calls, true
+}
+
+// concaveLeftWolfeNWAlphaE1RoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
+// that moving xᵢ by a few of its rounding units makes in gᵢ:
+// where no step the step test resolves decreases f, a gradient that small
+// is zero to the rounding of x (the resolution of x in floating point,
+// common practice). It is added only at a stall, so a gradient far above
+// it still ends the run as stalled.
+func concaveLeftWolfeNWAlphaE1RoundingFloor(x, g, e *[1]float64, diffs *concaveLeftWolfeNWAlphaE1Differences) {
+	var h [1]float64
+	concaveLeftWolfeNWAlphaE1DiagonalCurvature(x, g, diffs, &h)
+	for i := range e {
+		e[i] += 4 * concaveLeftWolfeNWAlphaE1UnitRoundoff * concaveLeftWolfeNWAlphaE1Abs(x[i]) * h[i]
+	}
+}
+
+// concaveLeftWolfeNWAlphaE1DiagonalCurvature estimates each |∂²f/∂xᵢ²| from the analytic gradient
+// at x + δᵢeᵢ, δᵢ = √u·max(1, |xᵢ|): dim gradient calls and no objective
+// call (a forward difference of the gradient, Nocedal & Wright 2006,
+// §8.1).
+func concaveLeftWolfeNWAlphaE1DiagonalCurvature(x, g *[1]float64, diffs *concaveLeftWolfeNWAlphaE1Differences, h *[1]float64) {
+	probe := *x
+	var moved [1]float64
+	for i := range probe {
+		xi := probe[i]
+		up, delta := concaveLeftWolfeNWAlphaE1ProbeStep(xi, concaveLeftWolfeNWAlphaE1SquareRoot(concaveLeftWolfeNWAlphaE1UnitRoundoff)*concaveLeftWolfeNWAlphaE1Larger(1, concaveLeftWolfeNWAlphaE1Abs(xi)))
+		probe[i] = up
+		moved[0] = ConcaveLeftDeriv(probe[0])
+		h[i] = concaveLeftWolfeNWAlphaE1Abs(moved[i]-g[i]) / delta
+		probe[i] = xi
+	}
+}
+
+// concaveLeftWolfeNWAlphaE1ProbeStep returns x_i moved by h, and the step actually representable.
+func concaveLeftWolfeNWAlphaE1ProbeStep(xi, h float64) (float64, float64) {
+	moved := xi + h
+	return moved, moved - xi
+}
+
+// concaveLeftWolfeNWAlphaE1SquareRoot returns √v.
+func concaveLeftWolfeNWAlphaE1SquareRoot(v float64) float64 {
+	return math.Sqrt(v)
 }
 
 // concaveLeftWolfeNWAlphaE1Dot returns aᵀb.
@@ -387,7 +629,7 @@ func concaveLeftWolfeNWAlphaE1TinyStep(x, d *[1]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func concaveLeftWolfeNWAlphaE1LineSearch(x *[1]float64, fx float64, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64) concaveLeftWolfeNWAlphaE1LineResult {
+func concaveLeftWolfeNWAlphaE1LineSearch(x *[1]float64, fx float64, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *concaveLeftWolfeNWAlphaE1Differences) concaveLeftWolfeNWAlphaE1LineResult {
 	low := concaveLeftWolfeNWAlphaE1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveLeftWolfeNWAlphaE1LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                         // ∇f at low, kept for accepting low from a collapsed bracket
@@ -419,7 +661,7 @@ func concaveLeftWolfeNWAlphaE1LineSearch(x *[1]float64, fx float64, d *[1]float6
 			if calls+concaveLeftWolfeNWAlphaE1DerivativeCost > budget {
 				return concaveLeftWolfeNWAlphaE1LineResult{calls: calls, end: concaveLeftWolfeNWAlphaE1SearchOutOfBudget}
 			}
-			concaveLeftWolfeNWAlphaE1Derivative(xt, current.value, gt)
+			concaveLeftWolfeNWAlphaE1Derivative(xt, current.value, gt, diffs)
 			calls += concaveLeftWolfeNWAlphaE1DerivativeCost
 			current.slope, current.hasSlope = concaveLeftWolfeNWAlphaE1Dot(gt, d), true
 			switch {
@@ -444,7 +686,7 @@ func concaveLeftWolfeNWAlphaE1LineSearch(x *[1]float64, fx float64, d *[1]float6
 	if low.step > 0 {
 		return concaveLeftWolfeNWAlphaE1AcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
 	}
-	return concaveLeftWolfeNWAlphaE1LineResult{calls: calls, end: concaveLeftWolfeNWAlphaE1SearchExhausted}
+	return concaveLeftWolfeNWAlphaE1LineResult{calls: calls, rising: trend.contradicts(), end: concaveLeftWolfeNWAlphaE1SearchExhausted}
 }
 
 // concaveLeftWolfeNWAlphaE1LineResult is what a line search reports to the kernel.
@@ -545,6 +787,7 @@ const (
 	concaveLeftWolfeNWAlphaE1SearchExhausted                                             // concaveLeftWolfeNWAlphaE1StepTrials trials met none
 	concaveLeftWolfeNWAlphaE1SearchOutOfBudget                                           // the evaluation cap came first
 	concaveLeftWolfeNWAlphaE1SearchTiny                                                  // every step longer than tiny failed to decrease f
+	concaveLeftWolfeNWAlphaE1SearchDiverged                                              // a fixed step's value overflowed
 )
 
 // concaveLeftWolfeNWAlphaE1AcceptLow ends a Wolfe search with its best trial, which met sufficient
@@ -610,11 +853,6 @@ func concaveLeftWolfeNWAlphaE1ModelMinimizer(a, b *concaveLeftWolfeNWAlphaE1Line
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, concaveLeftWolfeNWAlphaE1Finite(t)
-}
-
-// concaveLeftWolfeNWAlphaE1SquareRoot returns √v.
-func concaveLeftWolfeNWAlphaE1SquareRoot(v float64) float64 {
-	return math.Sqrt(v)
 }
 
 // concaveLeftWolfeNWAlphaE1ClampBetween returns v limited to the interval with ends a and b, in

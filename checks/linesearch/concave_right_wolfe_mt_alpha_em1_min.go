@@ -8,10 +8,10 @@ import "math"
 type ConcaveRightWolfeMTAlphaEm1Status uint8
 
 const (
-	// ConcaveRightWolfeMTAlphaEm1GradientSmall: the largest gradient component fell to the gradient limit: converged.
+	// ConcaveRightWolfeMTAlphaEm1GradientSmall: the gradient test holds at X: its measure, with the differences' error bound when they are used, is at most the gradient limit: converged.
 	ConcaveRightWolfeMTAlphaEm1GradientSmall ConcaveRightWolfeMTAlphaEm1Status = iota + 1
-	// ConcaveRightWolfeMTAlphaEm1StepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f: converged.
-	ConcaveRightWolfeMTAlphaEm1StepTiny
+	// ConcaveRightWolfeMTAlphaEm1Stalled: the step test ended the run, or no step longer than the step limit decreased f, while the gradient test still fails: X is as far as the run could get, not a verified minimizer.
+	ConcaveRightWolfeMTAlphaEm1Stalled
 	// ConcaveRightWolfeMTAlphaEm1OutOfIterations: the iteration limit came first.
 	ConcaveRightWolfeMTAlphaEm1OutOfIterations
 	// ConcaveRightWolfeMTAlphaEm1OutOfEvaluations: the next objective call would have exceeded the evaluation cap.
@@ -22,8 +22,10 @@ const (
 	ConcaveRightWolfeMTAlphaEm1NonFiniteStart
 	// ConcaveRightWolfeMTAlphaEm1NonFiniteGradient: a gradient component became NaN or ±Inf.
 	ConcaveRightWolfeMTAlphaEm1NonFiniteGradient
-	// ConcaveRightWolfeMTAlphaEm1NoDecrease: no step longer than the step limit decreased f, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test).
+	// ConcaveRightWolfeMTAlphaEm1NoDecrease: the line search found no acceptable step, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test).
 	ConcaveRightWolfeMTAlphaEm1NoDecrease
+	// ConcaveRightWolfeMTAlphaEm1Diverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
+	ConcaveRightWolfeMTAlphaEm1Diverged
 )
 
 // String describes the status in a few words.
@@ -31,8 +33,8 @@ func (s ConcaveRightWolfeMTAlphaEm1Status) String() string {
 	switch s {
 	case ConcaveRightWolfeMTAlphaEm1GradientSmall:
 		return "gradient small"
-	case ConcaveRightWolfeMTAlphaEm1StepTiny:
-		return "step tiny"
+	case ConcaveRightWolfeMTAlphaEm1Stalled:
+		return "stalled"
 	case ConcaveRightWolfeMTAlphaEm1OutOfIterations:
 		return "out of iterations"
 	case ConcaveRightWolfeMTAlphaEm1OutOfEvaluations:
@@ -45,28 +47,32 @@ func (s ConcaveRightWolfeMTAlphaEm1Status) String() string {
 		return "non-finite gradient"
 	case ConcaveRightWolfeMTAlphaEm1NoDecrease:
 		return "no decrease"
+	case ConcaveRightWolfeMTAlphaEm1Diverged:
+		return "diverged"
 	default:
 		return "unknown status"
 	}
 }
 
-// Converged reports whether a convergence test, on the gradient or on the step, ended the run; limits, line-search failure and non-finite values are not convergence.
+// Converged reports whether the gradient test holds at X (Gradient ≤ GradientLimit in the result): only then is X a verified stationary point; a stall, the limits, line-search failure and non-finite values are not convergence.
 func (s ConcaveRightWolfeMTAlphaEm1Status) Converged() bool {
-	return s == ConcaveRightWolfeMTAlphaEm1GradientSmall || s == ConcaveRightWolfeMTAlphaEm1StepTiny
+	return s == ConcaveRightWolfeMTAlphaEm1GradientSmall
 }
 
 // ConcaveRightWolfeMTAlphaEm1Result is where ConcaveRightWolfeMTAlphaEm1 stopped and why.
 type ConcaveRightWolfeMTAlphaEm1Result struct {
-	X           float64                           // the last accepted point, the best one found
-	F           float64                           // the objective at X
-	Iterations  int                               // accepted steps
-	Evaluations int                               // objective calls, finite differences included
-	Status      ConcaveRightWolfeMTAlphaEm1Status // why the run stopped; check Status.Converged()
+	X             float64                           // where the gradient test held, when converged; else the lowest point seen
+	F             float64                           // the objective at X
+	Gradient      float64                           // the gradient test's measure at X, the differences' error bound included; NaN when the run ended before the gradient at X was known
+	GradientLimit float64                           // the limit Gradient was held to: Limits.Gradient, raised with differences to ten times the measure of their error bound; converged runs have Gradient ≤ GradientLimit
+	Iterations    int                               // accepted steps
+	Evaluations   int                               // objective calls, finite differences included
+	Status        ConcaveRightWolfeMTAlphaEm1Status // why the run stopped; check Status.Converged()
 }
 
 // ConcaveRightWolfeMTAlphaEm1Limits are the stop limits of one run. Pass them to ConcaveRightWolfeMTAlphaEm1WithLimits to change them at run time; ConcaveRightWolfeMTAlphaEm1DefaultLimits returns the spec's.
 type ConcaveRightWolfeMTAlphaEm1Limits struct {
-	Gradient    float64 // stop when the largest |∂f/∂xᵢ| is at most this
+	Gradient    float64 // stop, converged, when the gradient test's measure is at most this (with differences, at most ten times the measure of their error bound where that is larger)
 	Step        float64 // stop when every |Δxᵢ| is at most this·(|xᵢ| + 1)
 	Iterations  int     // most accepted steps
 	Evaluations int     // hard cap on objective calls, finite differences included; never exceeded
@@ -75,9 +81,9 @@ type ConcaveRightWolfeMTAlphaEm1Limits struct {
 // ConcaveRightWolfeMTAlphaEm1DefaultLimits returns the stop limits of linesearch.toml, [minimizer.stop].
 func ConcaveRightWolfeMTAlphaEm1DefaultLimits() ConcaveRightWolfeMTAlphaEm1Limits {
 	return ConcaveRightWolfeMTAlphaEm1Limits{
-		Evaluations: 10000,
+		Evaluations: 200000,
 		Gradient:    1e-08,
-		Iterations:  500,
+		Iterations:  5000,
 		Step:        1e-14,
 	}
 }
@@ -87,10 +93,11 @@ func ConcaveRightWolfeMTAlphaEm1DefaultLimits() ConcaveRightWolfeMTAlphaEm1Limit
 // Direction steepest: steepest descent, d = −∇f; no memory, linear convergence.
 // Step rule wolfe: bracket and zoom until sufficient decrease and the curvature condition hold.
 // Derivative analytic: the user's own gradient function (spec key `gradient`); costs no objective calls.
+// Gradient test relative: max over i of (|∂f/∂xᵢ| + eᵢ)·max(|xᵢ|, 1)/max(|f(x)|, 1), eᵢ the error bound of differences (0 for an analytic gradient).
 // Constants: initial 0.2, c1 0.001, c2 0.1, at most 46 trials per line search.
-// Default stop: largest gradient component ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 500 iterations, 10000 objective calls.
+// Default stop: gradient measure ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
 //
-// Worst case: 10000 objective calls (the evaluation cap; the iteration limit alone would allow 23001). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
+// Worst case: 200000 objective calls (the evaluation cap; the iteration limit alone would allow 230047). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
 func ConcaveRightWolfeMTAlphaEm1(x0 float64) ConcaveRightWolfeMTAlphaEm1Result {
 	return ConcaveRightWolfeMTAlphaEm1WithLimits(x0, ConcaveRightWolfeMTAlphaEm1DefaultLimits())
@@ -100,11 +107,13 @@ func ConcaveRightWolfeMTAlphaEm1(x0 float64) ConcaveRightWolfeMTAlphaEm1Result {
 func ConcaveRightWolfeMTAlphaEm1WithLimits(x0 float64, limits ConcaveRightWolfeMTAlphaEm1Limits) ConcaveRightWolfeMTAlphaEm1Result {
 	out := concaveRightWolfeMTAlphaEm1Minimize([1]float64{x0}, limits)
 	return ConcaveRightWolfeMTAlphaEm1Result{
-		Evaluations: out.evaluations,
-		F:           out.f,
-		Iterations:  out.iterations,
-		Status:      out.status,
-		X:           out.x[0],
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x[0],
 	}
 }
 
@@ -121,22 +130,36 @@ const (
 
 // concaveRightWolfeMTAlphaEm1Minimize runs the descent loop from x0 within lim:
 //
-//  1. stop when the largest gradient component is at most lim.Gradient;
+//  1. stop, converged, when the gradient measure (concaveRightWolfeMTAlphaEm1GradientMeasure, error
+//     bound of differences included) is at most the limit: lim.Gradient,
+//     or three times the measure of the differences' error bound when that is
+//     larger, so that the limit can be met (the floor the test can see);
+//     differences confirm it first (concaveRightWolfeMTAlphaEm1ConfirmGradient);
 //  2. stop after lim.Iterations accepted steps;
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
-//  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged,
-//     unless f contradicts an analytic gradient: no decrease);
+//  4. search along d; stop when no trial is acceptable or only steps
+//     shorter than the step limit are left to try: stalled, or no
+//     decrease when f contradicts an analytic gradient (see concaveRightWolfeMTAlphaEm1RiseTrend);
 //  5. move, refresh the gradient, let the direction learn from the step;
-//  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
+//  6. stop, stalled, when every |Δx_i| is at most lim.Step·(|x_i| + 1) while
+//     the gradient test still fails. At a stall the run settles first
+//     (settle): the error bound gains the rounding floor of x, with
+//     differences confirmed, and the limit rises to ten times the larger
+//     of lim.Gradient and the bound's measure; a gradient within that is
+//     as small as this point can show, and the run is converged with that
+//     limit, which it reports.
 //
-// Before every objective call it checks that lim.Evaluations leaves room
-// for it, so the cap is never exceeded. A NaN or ±Inf at the start or in a
+// Only step 1 is convergence: the first-order test holds at X. Before
+// every objective call it checks that lim.Evaluations leaves room for it,
+// so the cap is never exceeded. A NaN or ±Inf at the start or in a
 // gradient ends the run with its own status; a non-finite trial value is
-// rejected by the line search like any failed trial.
+// rejected by the line search like any failed trial. X is the best point
+// seen unless the run converged, which it did at X. A fixed step whose
+// value overflows, or that raised f above f(x0) at eight steps in a row,
+// ends the run as diverged (common practice for a divergence test).
 func concaveRightWolfeMTAlphaEm1Minimize(x0 [1]float64, lim ConcaveRightWolfeMTAlphaEm1Limits) concaveRightWolfeMTAlphaEm1Outcome {
-	out := concaveRightWolfeMTAlphaEm1Outcome{x: x0, status: ConcaveRightWolfeMTAlphaEm1OutOfEvaluations}
+	out := concaveRightWolfeMTAlphaEm1Outcome{x: x0, status: ConcaveRightWolfeMTAlphaEm1OutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
@@ -147,11 +170,14 @@ func concaveRightWolfeMTAlphaEm1Minimize(x0 [1]float64, lim ConcaveRightWolfeMTA
 		out.status = ConcaveRightWolfeMTAlphaEm1NonFiniteStart
 		return out
 	}
-	if out.evaluations+concaveRightWolfeMTAlphaEm1DerivativeCost > lim.Evaluations {
+	var diffs concaveRightWolfeMTAlphaEm1Differences
+	calls, ok := concaveRightWolfeMTAlphaEm1Calibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
+	out.evaluations += calls
+	if !ok || out.evaluations+concaveRightWolfeMTAlphaEm1DerivativeCost > lim.Evaluations {
 		return out
 	}
-	var g [1]float64
-	concaveRightWolfeMTAlphaEm1Derivative(&x, fx, &g)
+	var g, e [1]float64
+	concaveRightWolfeMTAlphaEm1Derivative(&x, fx, &g, &diffs)
 	out.evaluations += concaveRightWolfeMTAlphaEm1DerivativeCost
 
 	if !concaveRightWolfeMTAlphaEm1FiniteVec(&g) {
@@ -162,21 +188,76 @@ func concaveRightWolfeMTAlphaEm1Minimize(x0 [1]float64, lim ConcaveRightWolfeMTA
 	dir.reset()
 	var d, xt, gt, s, y [1]float64
 	t, slope := float64(concaveRightWolfeMTAlphaEm1StepInitial), float64(0) // the previous iteration's accepted step and slope
+	best := out                                                             // the lowest point seen, for runs that end unconverged
+	start, rises := fx, 0                                                   // f(x0), and consecutive accepted steps that raised f above it
+	confirmed := false                                                      // whether g and e at x come from concaveRightWolfeMTAlphaEm1ConfirmGradient
+	stalled := false                                                        // whether the run can make no more progress at x
+	retried := -1                                                           // the iteration whose stall was retried with recalibrated differences
 	for {
-		if concaveRightWolfeMTAlphaEm1MaxAbs(&g) <= lim.Gradient {
+		if !confirmed {
+			concaveRightWolfeMTAlphaEm1GradientError(&x, fx, &g, &e, &diffs)
+		}
+		measure, floor := concaveRightWolfeMTAlphaEm1GradientMeasure(&g, &e, &x, fx)
+		out.gradient, out.gradientLimit = measure, concaveRightWolfeMTAlphaEm1Larger(lim.Gradient, 3*floor)
+		if stalled {
+			// No step can make progress here: the gradient is as small as
+			// this point shows it, within ten times the limit or the floor.
+			out.gradientLimit = 10 * concaveRightWolfeMTAlphaEm1Larger(lim.Gradient, floor)
+		}
+		if out.f <= best.f {
+			best = out
+		}
+		if measure <= out.gradientLimit && (concaveRightWolfeMTAlphaEm1DerivativeCost == 0 || confirmed) {
 			out.status = ConcaveRightWolfeMTAlphaEm1GradientSmall
 			return out
 		}
-		if out.iterations > 0 {
+		if measure <= out.gradientLimit {
+			// Differences pass the test: confirm it with intervals chosen
+			// here and an error measured rather than modelled.
+			calls, ok := concaveRightWolfeMTAlphaEm1ConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(ConcaveRightWolfeMTAlphaEm1OutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !concaveRightWolfeMTAlphaEm1FiniteVec(&g) {
+				return best.ending(ConcaveRightWolfeMTAlphaEm1NonFiniteGradient, out.iterations, out.evaluations)
+			}
+			confirmed = true
+			continue
+		}
+		if stalled {
+			// Settled and still above the limit: stalled, unless
+			// differences, whose intervals were just chosen here, can
+			// search once more with the better gradient.
+			if concaveRightWolfeMTAlphaEm1DerivativeCost == 0 {
+				return best.ending(ConcaveRightWolfeMTAlphaEm1Stalled, out.iterations, out.evaluations)
+			}
+			stalled, retried = false, out.iterations
+		}
+		// At a stall, settle first: the run is converged if the gradient
+		// is zero to the rounding of x (and, with differences, to their
+		// accuracy, confirmed); see settle.
+		canSettle := retried != out.iterations
+		if out.iterations > 0 && canSettle {
 			if concaveRightWolfeMTAlphaEm1StepWithin(&s, &x, lim.Step) {
-				out.status = ConcaveRightWolfeMTAlphaEm1StepTiny
-				return out
+				calls, ok := concaveRightWolfeMTAlphaEm1Settle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+				out.evaluations += calls
+				if !ok {
+					return best.ending(ConcaveRightWolfeMTAlphaEm1OutOfEvaluations, out.iterations, out.evaluations)
+				}
+				if !concaveRightWolfeMTAlphaEm1FiniteVec(&g) {
+					return best.ending(ConcaveRightWolfeMTAlphaEm1NonFiniteGradient, out.iterations, out.evaluations)
+				}
+				stalled, confirmed = true, true
+				continue
+			}
+			if rises >= 8 {
+				return best.ending(ConcaveRightWolfeMTAlphaEm1Diverged, out.iterations, out.evaluations)
 			}
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
-			out.status = ConcaveRightWolfeMTAlphaEm1OutOfIterations
-			return out
+			return best.ending(ConcaveRightWolfeMTAlphaEm1OutOfIterations, out.iterations, out.evaluations)
 		}
 		dir.compute(&g, &d)
 		now := concaveRightWolfeMTAlphaEm1Dot(&g, &d)
@@ -190,50 +271,70 @@ func concaveRightWolfeMTAlphaEm1Minimize(x0 [1]float64, lim ConcaveRightWolfeMTA
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := concaveRightWolfeMTAlphaEm1TinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := concaveRightWolfeMTAlphaEm1LineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt)
+		found := concaveRightWolfeMTAlphaEm1LineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case concaveRightWolfeMTAlphaEm1SearchOutOfBudget:
-			return out
-		case concaveRightWolfeMTAlphaEm1SearchExhausted:
-			out.status = ConcaveRightWolfeMTAlphaEm1NoAcceptableStep
-			return out
-		case concaveRightWolfeMTAlphaEm1SearchTiny:
-			// Converged to the step limit: no step the step test would
-			// reject decreases f. Not so when an analytic gradient is
-			// contradicted by f rising in proportion to the step (see
-			// concaveRightWolfeMTAlphaEm1RiseTrend, which never reports that for differences).
-			out.status = ConcaveRightWolfeMTAlphaEm1StepTiny
-			if found.rising {
-				out.status = ConcaveRightWolfeMTAlphaEm1NoDecrease
+			return best.ending(ConcaveRightWolfeMTAlphaEm1OutOfEvaluations, out.iterations, out.evaluations)
+		case concaveRightWolfeMTAlphaEm1SearchDiverged:
+			return best.ending(ConcaveRightWolfeMTAlphaEm1Diverged, out.iterations, out.evaluations)
+		case concaveRightWolfeMTAlphaEm1SearchExhausted, concaveRightWolfeMTAlphaEm1SearchTiny:
+			// No acceptable step. When an analytic gradient predicted a
+			// fall that f contradicted in proportion to the step, the
+			// gradient is probably wrong (see concaveRightWolfeMTAlphaEm1RiseTrend, which never
+			// reports that for differences); otherwise the search stalled
+			// below the step limit, or ran out of trials.
+			end := ConcaveRightWolfeMTAlphaEm1NoAcceptableStep
+			switch {
+			case found.rising:
+				end = ConcaveRightWolfeMTAlphaEm1NoDecrease
+			case found.end == concaveRightWolfeMTAlphaEm1SearchTiny && canSettle:
+				calls, ok := concaveRightWolfeMTAlphaEm1Settle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+				out.evaluations += calls
+				if !ok {
+					return best.ending(ConcaveRightWolfeMTAlphaEm1OutOfEvaluations, out.iterations, out.evaluations)
+				}
+				if !concaveRightWolfeMTAlphaEm1FiniteVec(&g) {
+					return best.ending(ConcaveRightWolfeMTAlphaEm1NonFiniteGradient, out.iterations, out.evaluations)
+				}
+				stalled, confirmed = true, true
+				continue
+			case found.end == concaveRightWolfeMTAlphaEm1SearchTiny:
+				end = ConcaveRightWolfeMTAlphaEm1Stalled
 			}
-			return out
+			return best.ending(end, out.iterations, out.evaluations)
 		}
 		if !concaveRightWolfeMTAlphaEm1FiniteVec(&xt) {
-			out.status = ConcaveRightWolfeMTAlphaEm1NoAcceptableStep // the accepted trial overflowed x
-			return out
+			return best.ending(ConcaveRightWolfeMTAlphaEm1NoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
 		}
 		if !found.gradient {
 			if out.evaluations+concaveRightWolfeMTAlphaEm1DerivativeCost > lim.Evaluations {
-				if found.value < fx { // keep a better point even without its gradient
-					out.x, out.f = xt, found.value
+				if found.value < best.f { // keep a better point even without its gradient
+					best.x, best.f, best.gradient = xt, found.value, math.NaN()
 					out.iterations++
 				}
-				return out
+				return best.ending(ConcaveRightWolfeMTAlphaEm1OutOfEvaluations, out.iterations, out.evaluations)
 			}
-			concaveRightWolfeMTAlphaEm1Derivative(&xt, found.value, &gt)
+			concaveRightWolfeMTAlphaEm1Derivative(&xt, found.value, &gt, &diffs)
 			out.evaluations += concaveRightWolfeMTAlphaEm1DerivativeCost
 		}
 		out.iterations++
 		concaveRightWolfeMTAlphaEm1Difference(&s, &xt, &x)
 		concaveRightWolfeMTAlphaEm1Difference(&y, &gt, &g)
-		x, fx, g = xt, found.value, gt
-		out.x, out.f = x, fx
+		if found.value > fx && found.value > start {
+			rises++
+		} else {
+			rises = 0
+		}
+		x, fx, g, confirmed = xt, found.value, gt, false
+		out.x, out.f, out.gradient = x, fx, math.NaN()
 		t, slope = found.step, now
 
 		if !concaveRightWolfeMTAlphaEm1FiniteVec(&g) {
-			out.status = ConcaveRightWolfeMTAlphaEm1NonFiniteGradient
-			return out
+			if out.f < best.f {
+				best = out
+			}
+			return best.ending(ConcaveRightWolfeMTAlphaEm1NonFiniteGradient, out.iterations, out.evaluations)
 		}
 	}
 }
@@ -241,11 +342,19 @@ func concaveRightWolfeMTAlphaEm1Minimize(x0 [1]float64, lim ConcaveRightWolfeMTA
 // concaveRightWolfeMTAlphaEm1Outcome is the kernel's report; the generated entry point copies it into
 // the spec's result type.
 type concaveRightWolfeMTAlphaEm1Outcome struct {
-	x           [1]float64
-	f           float64
-	iterations  int
-	evaluations int
-	status      ConcaveRightWolfeMTAlphaEm1Status
+	x             [1]float64
+	f             float64
+	gradient      float64 // the stop test's measure at x, error bound included; NaN when not known
+	gradientLimit float64 // the limit that measure was held to
+	iterations    int
+	evaluations   int
+	status        ConcaveRightWolfeMTAlphaEm1Status
+}
+
+// ending is the best point seen, reported with the run's end and counts.
+func (o concaveRightWolfeMTAlphaEm1Outcome) ending(end ConcaveRightWolfeMTAlphaEm1Status, iterations, evaluations int) concaveRightWolfeMTAlphaEm1Outcome {
+	o.status, o.iterations, o.evaluations = end, iterations, evaluations
+	return o
 }
 
 // concaveRightWolfeMTAlphaEm1Finite reports whether v is neither NaN nor ±Inf, by comparing it with
@@ -270,8 +379,24 @@ func concaveRightWolfeMTAlphaEm1FiniteVec(x *[1]float64) bool {
 	return true
 }
 
+// concaveRightWolfeMTAlphaEm1Differences is what the difference gradients learn from the objective
+// at the start: for each coordinate i, the interval as a multiple of
+// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
+// forward differences, |f‴| for central ones). The analytic gradient
+// leaves it unused.
+type concaveRightWolfeMTAlphaEm1Differences struct {
+	ratio     [1]float64
+	curvature [1]float64
+	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see concaveRightWolfeMTAlphaEm1RoundingFloor)
+}
+
+// concaveRightWolfeMTAlphaEm1Calibrate: an analytic gradient needs no intervals.
+func concaveRightWolfeMTAlphaEm1Calibrate(x *[1]float64, fx float64, diffs *concaveRightWolfeMTAlphaEm1Differences, budget int) (int, bool) {
+	return 0, true
+}
+
 // concaveRightWolfeMTAlphaEm1Derivative calls the user's gradient; it costs no objective calls.
-func concaveRightWolfeMTAlphaEm1Derivative(x *[1]float64, fx float64, g *[1]float64) {
+func concaveRightWolfeMTAlphaEm1Derivative(x *[1]float64, fx float64, g *[1]float64, diffs *concaveRightWolfeMTAlphaEm1Differences) {
 	g[0] = ConcaveRightDeriv(x[0])
 }
 
@@ -311,15 +436,43 @@ func concaveRightWolfeMTAlphaEm1ScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
-// concaveRightWolfeMTAlphaEm1MaxAbs returns the largest |x_i|, the infinity norm.
-func concaveRightWolfeMTAlphaEm1MaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := concaveRightWolfeMTAlphaEm1Abs(x[i]); a > m || a != a {
-			m = a
-		}
+// concaveRightWolfeMTAlphaEm1GradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func concaveRightWolfeMTAlphaEm1GradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *concaveRightWolfeMTAlphaEm1Differences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return m
+}
+
+// concaveRightWolfeMTAlphaEm1GradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func concaveRightWolfeMTAlphaEm1GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
+	scale := concaveRightWolfeMTAlphaEm1Larger(concaveRightWolfeMTAlphaEm1Abs(fx), 1)
+	for i := range g {
+		w := concaveRightWolfeMTAlphaEm1Larger(concaveRightWolfeMTAlphaEm1Abs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = concaveRightWolfeMTAlphaEm1Larger(measure, (concaveRightWolfeMTAlphaEm1Abs(g[i])+e[i])*w)
+		floor = concaveRightWolfeMTAlphaEm1Larger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// concaveRightWolfeMTAlphaEm1Larger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func concaveRightWolfeMTAlphaEm1Larger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
 }
 
 // concaveRightWolfeMTAlphaEm1Abs returns |v|.
@@ -328,6 +481,36 @@ func concaveRightWolfeMTAlphaEm1Abs(v float64) float64 {
 		return -v
 	}
 	return v
+}
+
+// concaveRightWolfeMTAlphaEm1ConfirmGradient recomputes a difference gradient at x before the run is
+// called converged there: it chooses the intervals again from the
+// curvature at x (calibrate), computes g with them and with twice them,
+// and bounds each component's error by the model (concaveRightWolfeMTAlphaEm1GradientError) plus
+// three times the change the doubling made. That change measures what the
+// model can miss, truncation from curvature that varies and rounding
+// noise above 4u·|f|; as one sample of that noise it is tripled
+// (Richardson's idea of comparing two intervals; the factor is common
+// practice for a posteriori error estimates). It costs a calibration and two
+// gradients, and returns the calls spent and false when budget ran out
+// first.
+func concaveRightWolfeMTAlphaEm1ConfirmGradient(x *[1]float64, fx float64, g, e *[1]float64, diffs *concaveRightWolfeMTAlphaEm1Differences, budget int) (int, bool) {
+	calls, ok := concaveRightWolfeMTAlphaEm1Calibrate(x, fx, diffs, budget)
+	if !ok || calls+2*concaveRightWolfeMTAlphaEm1DerivativeCost > budget {
+		return calls, false
+	}
+	wide := *diffs
+	for i := range wide.ratio {
+		wide.ratio[i] *= 2
+	}
+	var doubled [1]float64
+	concaveRightWolfeMTAlphaEm1Derivative(x, fx, g, diffs)
+	concaveRightWolfeMTAlphaEm1Derivative(x, fx, &doubled, &wide)
+	concaveRightWolfeMTAlphaEm1GradientError(x, fx, g, e, diffs)
+	for i := range e {
+		e[i] += 3 * concaveRightWolfeMTAlphaEm1Abs(g[i]-doubled[i])
+	}
+	return calls + 2*concaveRightWolfeMTAlphaEm1DerivativeCost, true
 }
 
 // concaveRightWolfeMTAlphaEm1StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
@@ -340,6 +523,65 @@ func concaveRightWolfeMTAlphaEm1StepWithin(s, x *[1]float64, tol float64) bool {
 		}
 	}
 	return true
+}
+
+// concaveRightWolfeMTAlphaEm1Settle prepares the final verdict at a stall: with differences it
+// confirms the gradient (concaveRightWolfeMTAlphaEm1ConfirmGradient), then it adds to each error
+// bound the rounding floor of x (concaveRightWolfeMTAlphaEm1RoundingFloor). It returns the objective
+// calls spent and false when budget ran out first.
+func concaveRightWolfeMTAlphaEm1Settle(x *[1]float64, fx float64, g, e *[1]float64, diffs *concaveRightWolfeMTAlphaEm1Differences, budget int) (int, bool) {
+	calls := 0
+	if concaveRightWolfeMTAlphaEm1DerivativeCost > 0 {
+		spent, ok := concaveRightWolfeMTAlphaEm1ConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
+	}
+	concaveRightWolfeMTAlphaEm1RoundingFloor(x, g, e, diffs)
+	return calls, true
+}
+
+// concaveRightWolfeMTAlphaEm1RoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
+// that moving xᵢ by a few of its rounding units makes in gᵢ:
+// where no step the step test resolves decreases f, a gradient that small
+// is zero to the rounding of x (the resolution of x in floating point,
+// common practice). It is added only at a stall, so a gradient far above
+// it still ends the run as stalled.
+func concaveRightWolfeMTAlphaEm1RoundingFloor(x, g, e *[1]float64, diffs *concaveRightWolfeMTAlphaEm1Differences) {
+	var h [1]float64
+	concaveRightWolfeMTAlphaEm1DiagonalCurvature(x, g, diffs, &h)
+	for i := range e {
+		e[i] += 4 * concaveRightWolfeMTAlphaEm1UnitRoundoff * concaveRightWolfeMTAlphaEm1Abs(x[i]) * h[i]
+	}
+}
+
+// concaveRightWolfeMTAlphaEm1DiagonalCurvature estimates each |∂²f/∂xᵢ²| from the analytic gradient
+// at x + δᵢeᵢ, δᵢ = √u·max(1, |xᵢ|): dim gradient calls and no objective
+// call (a forward difference of the gradient, Nocedal & Wright 2006,
+// §8.1).
+func concaveRightWolfeMTAlphaEm1DiagonalCurvature(x, g *[1]float64, diffs *concaveRightWolfeMTAlphaEm1Differences, h *[1]float64) {
+	probe := *x
+	var moved [1]float64
+	for i := range probe {
+		xi := probe[i]
+		up, delta := concaveRightWolfeMTAlphaEm1ProbeStep(xi, concaveRightWolfeMTAlphaEm1SquareRoot(concaveRightWolfeMTAlphaEm1UnitRoundoff)*concaveRightWolfeMTAlphaEm1Larger(1, concaveRightWolfeMTAlphaEm1Abs(xi)))
+		probe[i] = up
+		moved[0] = ConcaveRightDeriv(probe[0])
+		h[i] = concaveRightWolfeMTAlphaEm1Abs(moved[i]-g[i]) / delta
+		probe[i] = xi
+	}
+}
+
+// concaveRightWolfeMTAlphaEm1ProbeStep returns x_i moved by h, and the step actually representable.
+func concaveRightWolfeMTAlphaEm1ProbeStep(xi, h float64) (float64, float64) {
+	moved := xi + h
+	return moved, moved - xi
+}
+
+// concaveRightWolfeMTAlphaEm1SquareRoot returns √v.
+func concaveRightWolfeMTAlphaEm1SquareRoot(v float64) float64 {
+	return math.Sqrt(v)
 }
 
 // concaveRightWolfeMTAlphaEm1Dot returns aᵀb.
@@ -387,7 +629,7 @@ func concaveRightWolfeMTAlphaEm1TinyStep(x, d *[1]float64, tol float64) float64 
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func concaveRightWolfeMTAlphaEm1LineSearch(x *[1]float64, fx float64, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64) concaveRightWolfeMTAlphaEm1LineResult {
+func concaveRightWolfeMTAlphaEm1LineSearch(x *[1]float64, fx float64, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *concaveRightWolfeMTAlphaEm1Differences) concaveRightWolfeMTAlphaEm1LineResult {
 	low := concaveRightWolfeMTAlphaEm1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveRightWolfeMTAlphaEm1LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                           // ∇f at low, kept for accepting low from a collapsed bracket
@@ -419,7 +661,7 @@ func concaveRightWolfeMTAlphaEm1LineSearch(x *[1]float64, fx float64, d *[1]floa
 			if calls+concaveRightWolfeMTAlphaEm1DerivativeCost > budget {
 				return concaveRightWolfeMTAlphaEm1LineResult{calls: calls, end: concaveRightWolfeMTAlphaEm1SearchOutOfBudget}
 			}
-			concaveRightWolfeMTAlphaEm1Derivative(xt, current.value, gt)
+			concaveRightWolfeMTAlphaEm1Derivative(xt, current.value, gt, diffs)
 			calls += concaveRightWolfeMTAlphaEm1DerivativeCost
 			current.slope, current.hasSlope = concaveRightWolfeMTAlphaEm1Dot(gt, d), true
 			switch {
@@ -444,7 +686,7 @@ func concaveRightWolfeMTAlphaEm1LineSearch(x *[1]float64, fx float64, d *[1]floa
 	if low.step > 0 {
 		return concaveRightWolfeMTAlphaEm1AcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
 	}
-	return concaveRightWolfeMTAlphaEm1LineResult{calls: calls, end: concaveRightWolfeMTAlphaEm1SearchExhausted}
+	return concaveRightWolfeMTAlphaEm1LineResult{calls: calls, rising: trend.contradicts(), end: concaveRightWolfeMTAlphaEm1SearchExhausted}
 }
 
 // concaveRightWolfeMTAlphaEm1LineResult is what a line search reports to the kernel.
@@ -545,6 +787,7 @@ const (
 	concaveRightWolfeMTAlphaEm1SearchExhausted                                               // concaveRightWolfeMTAlphaEm1StepTrials trials met none
 	concaveRightWolfeMTAlphaEm1SearchOutOfBudget                                             // the evaluation cap came first
 	concaveRightWolfeMTAlphaEm1SearchTiny                                                    // every step longer than tiny failed to decrease f
+	concaveRightWolfeMTAlphaEm1SearchDiverged                                                // a fixed step's value overflowed
 )
 
 // concaveRightWolfeMTAlphaEm1AcceptLow ends a Wolfe search with its best trial, which met sufficient
@@ -610,11 +853,6 @@ func concaveRightWolfeMTAlphaEm1ModelMinimizer(a, b *concaveRightWolfeMTAlphaEm1
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, concaveRightWolfeMTAlphaEm1Finite(t)
-}
-
-// concaveRightWolfeMTAlphaEm1SquareRoot returns √v.
-func concaveRightWolfeMTAlphaEm1SquareRoot(v float64) float64 {
-	return math.Sqrt(v)
 }
 
 // concaveRightWolfeMTAlphaEm1ClampBetween returns v limited to the interval with ends a and b, in

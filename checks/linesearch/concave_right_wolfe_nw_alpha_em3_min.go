@@ -8,10 +8,10 @@ import "math"
 type ConcaveRightWolfeNWAlphaEm3Status uint8
 
 const (
-	// ConcaveRightWolfeNWAlphaEm3GradientSmall: the largest gradient component fell to the gradient limit: converged.
+	// ConcaveRightWolfeNWAlphaEm3GradientSmall: the gradient test holds at X: its measure, with the differences' error bound when they are used, is at most the gradient limit: converged.
 	ConcaveRightWolfeNWAlphaEm3GradientSmall ConcaveRightWolfeNWAlphaEm3Status = iota + 1
-	// ConcaveRightWolfeNWAlphaEm3StepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f: converged.
-	ConcaveRightWolfeNWAlphaEm3StepTiny
+	// ConcaveRightWolfeNWAlphaEm3Stalled: the step test ended the run, or no step longer than the step limit decreased f, while the gradient test still fails: X is as far as the run could get, not a verified minimizer.
+	ConcaveRightWolfeNWAlphaEm3Stalled
 	// ConcaveRightWolfeNWAlphaEm3OutOfIterations: the iteration limit came first.
 	ConcaveRightWolfeNWAlphaEm3OutOfIterations
 	// ConcaveRightWolfeNWAlphaEm3OutOfEvaluations: the next objective call would have exceeded the evaluation cap.
@@ -22,8 +22,10 @@ const (
 	ConcaveRightWolfeNWAlphaEm3NonFiniteStart
 	// ConcaveRightWolfeNWAlphaEm3NonFiniteGradient: a gradient component became NaN or ±Inf.
 	ConcaveRightWolfeNWAlphaEm3NonFiniteGradient
-	// ConcaveRightWolfeNWAlphaEm3NoDecrease: no step longer than the step limit decreased f, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test).
+	// ConcaveRightWolfeNWAlphaEm3NoDecrease: the line search found no acceptable step, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test).
 	ConcaveRightWolfeNWAlphaEm3NoDecrease
+	// ConcaveRightWolfeNWAlphaEm3Diverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
+	ConcaveRightWolfeNWAlphaEm3Diverged
 )
 
 // String describes the status in a few words.
@@ -31,8 +33,8 @@ func (s ConcaveRightWolfeNWAlphaEm3Status) String() string {
 	switch s {
 	case ConcaveRightWolfeNWAlphaEm3GradientSmall:
 		return "gradient small"
-	case ConcaveRightWolfeNWAlphaEm3StepTiny:
-		return "step tiny"
+	case ConcaveRightWolfeNWAlphaEm3Stalled:
+		return "stalled"
 	case ConcaveRightWolfeNWAlphaEm3OutOfIterations:
 		return "out of iterations"
 	case ConcaveRightWolfeNWAlphaEm3OutOfEvaluations:
@@ -45,28 +47,32 @@ func (s ConcaveRightWolfeNWAlphaEm3Status) String() string {
 		return "non-finite gradient"
 	case ConcaveRightWolfeNWAlphaEm3NoDecrease:
 		return "no decrease"
+	case ConcaveRightWolfeNWAlphaEm3Diverged:
+		return "diverged"
 	default:
 		return "unknown status"
 	}
 }
 
-// Converged reports whether a convergence test, on the gradient or on the step, ended the run; limits, line-search failure and non-finite values are not convergence.
+// Converged reports whether the gradient test holds at X (Gradient ≤ GradientLimit in the result): only then is X a verified stationary point; a stall, the limits, line-search failure and non-finite values are not convergence.
 func (s ConcaveRightWolfeNWAlphaEm3Status) Converged() bool {
-	return s == ConcaveRightWolfeNWAlphaEm3GradientSmall || s == ConcaveRightWolfeNWAlphaEm3StepTiny
+	return s == ConcaveRightWolfeNWAlphaEm3GradientSmall
 }
 
 // ConcaveRightWolfeNWAlphaEm3Result is where ConcaveRightWolfeNWAlphaEm3 stopped and why.
 type ConcaveRightWolfeNWAlphaEm3Result struct {
-	X           float64                           // the last accepted point, the best one found
-	F           float64                           // the objective at X
-	Iterations  int                               // accepted steps
-	Evaluations int                               // objective calls, finite differences included
-	Status      ConcaveRightWolfeNWAlphaEm3Status // why the run stopped; check Status.Converged()
+	X             float64                           // where the gradient test held, when converged; else the lowest point seen
+	F             float64                           // the objective at X
+	Gradient      float64                           // the gradient test's measure at X, the differences' error bound included; NaN when the run ended before the gradient at X was known
+	GradientLimit float64                           // the limit Gradient was held to: Limits.Gradient, raised with differences to ten times the measure of their error bound; converged runs have Gradient ≤ GradientLimit
+	Iterations    int                               // accepted steps
+	Evaluations   int                               // objective calls, finite differences included
+	Status        ConcaveRightWolfeNWAlphaEm3Status // why the run stopped; check Status.Converged()
 }
 
 // ConcaveRightWolfeNWAlphaEm3Limits are the stop limits of one run. Pass them to ConcaveRightWolfeNWAlphaEm3WithLimits to change them at run time; ConcaveRightWolfeNWAlphaEm3DefaultLimits returns the spec's.
 type ConcaveRightWolfeNWAlphaEm3Limits struct {
-	Gradient    float64 // stop when the largest |∂f/∂xᵢ| is at most this
+	Gradient    float64 // stop, converged, when the gradient test's measure is at most this (with differences, at most ten times the measure of their error bound where that is larger)
 	Step        float64 // stop when every |Δxᵢ| is at most this·(|xᵢ| + 1)
 	Iterations  int     // most accepted steps
 	Evaluations int     // hard cap on objective calls, finite differences included; never exceeded
@@ -75,9 +81,9 @@ type ConcaveRightWolfeNWAlphaEm3Limits struct {
 // ConcaveRightWolfeNWAlphaEm3DefaultLimits returns the stop limits of linesearch.toml, [minimizer.stop].
 func ConcaveRightWolfeNWAlphaEm3DefaultLimits() ConcaveRightWolfeNWAlphaEm3Limits {
 	return ConcaveRightWolfeNWAlphaEm3Limits{
-		Evaluations: 10000,
+		Evaluations: 200000,
 		Gradient:    1e-08,
-		Iterations:  500,
+		Iterations:  5000,
 		Step:        1e-14,
 	}
 }
@@ -87,10 +93,11 @@ func ConcaveRightWolfeNWAlphaEm3DefaultLimits() ConcaveRightWolfeNWAlphaEm3Limit
 // Direction steepest: steepest descent, d = −∇f; no memory, linear convergence.
 // Step rule wolfe: bracket and zoom until sufficient decrease and the curvature condition hold.
 // Derivative analytic: the user's own gradient function (spec key `gradient`); costs no objective calls.
+// Gradient test relative: max over i of (|∂f/∂xᵢ| + eᵢ)·max(|xᵢ|, 1)/max(|f(x)|, 1), eᵢ the error bound of differences (0 for an analytic gradient).
 // Constants: initial 0.002, c1 0.0001, c2 0.9, at most 39 trials per line search.
-// Default stop: largest gradient component ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 500 iterations, 10000 objective calls.
+// Default stop: gradient measure ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
 //
-// Worst case: 10000 objective calls (the evaluation cap; the iteration limit alone would allow 19501). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
+// Worst case: 195040 objective calls (the bound the iteration limit sets, below the evaluation cap of 200000). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
 func ConcaveRightWolfeNWAlphaEm3(x0 float64) ConcaveRightWolfeNWAlphaEm3Result {
 	return ConcaveRightWolfeNWAlphaEm3WithLimits(x0, ConcaveRightWolfeNWAlphaEm3DefaultLimits())
@@ -100,11 +107,13 @@ func ConcaveRightWolfeNWAlphaEm3(x0 float64) ConcaveRightWolfeNWAlphaEm3Result {
 func ConcaveRightWolfeNWAlphaEm3WithLimits(x0 float64, limits ConcaveRightWolfeNWAlphaEm3Limits) ConcaveRightWolfeNWAlphaEm3Result {
 	out := concaveRightWolfeNWAlphaEm3Minimize([1]float64{x0}, limits)
 	return ConcaveRightWolfeNWAlphaEm3Result{
-		Evaluations: out.evaluations,
-		F:           out.f,
-		Iterations:  out.iterations,
-		Status:      out.status,
-		X:           out.x[0],
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x[0],
 	}
 }
 
@@ -121,22 +130,36 @@ const (
 
 // concaveRightWolfeNWAlphaEm3Minimize runs the descent loop from x0 within lim:
 //
-//  1. stop when the largest gradient component is at most lim.Gradient;
+//  1. stop, converged, when the gradient measure (concaveRightWolfeNWAlphaEm3GradientMeasure, error
+//     bound of differences included) is at most the limit: lim.Gradient,
+//     or three times the measure of the differences' error bound when that is
+//     larger, so that the limit can be met (the floor the test can see);
+//     differences confirm it first (concaveRightWolfeNWAlphaEm3ConfirmGradient);
 //  2. stop after lim.Iterations accepted steps;
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
-//  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged,
-//     unless f contradicts an analytic gradient: no decrease);
+//  4. search along d; stop when no trial is acceptable or only steps
+//     shorter than the step limit are left to try: stalled, or no
+//     decrease when f contradicts an analytic gradient (see concaveRightWolfeNWAlphaEm3RiseTrend);
 //  5. move, refresh the gradient, let the direction learn from the step;
-//  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
+//  6. stop, stalled, when every |Δx_i| is at most lim.Step·(|x_i| + 1) while
+//     the gradient test still fails. At a stall the run settles first
+//     (settle): the error bound gains the rounding floor of x, with
+//     differences confirmed, and the limit rises to ten times the larger
+//     of lim.Gradient and the bound's measure; a gradient within that is
+//     as small as this point can show, and the run is converged with that
+//     limit, which it reports.
 //
-// Before every objective call it checks that lim.Evaluations leaves room
-// for it, so the cap is never exceeded. A NaN or ±Inf at the start or in a
+// Only step 1 is convergence: the first-order test holds at X. Before
+// every objective call it checks that lim.Evaluations leaves room for it,
+// so the cap is never exceeded. A NaN or ±Inf at the start or in a
 // gradient ends the run with its own status; a non-finite trial value is
-// rejected by the line search like any failed trial.
+// rejected by the line search like any failed trial. X is the best point
+// seen unless the run converged, which it did at X. A fixed step whose
+// value overflows, or that raised f above f(x0) at eight steps in a row,
+// ends the run as diverged (common practice for a divergence test).
 func concaveRightWolfeNWAlphaEm3Minimize(x0 [1]float64, lim ConcaveRightWolfeNWAlphaEm3Limits) concaveRightWolfeNWAlphaEm3Outcome {
-	out := concaveRightWolfeNWAlphaEm3Outcome{x: x0, status: ConcaveRightWolfeNWAlphaEm3OutOfEvaluations}
+	out := concaveRightWolfeNWAlphaEm3Outcome{x: x0, status: ConcaveRightWolfeNWAlphaEm3OutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
@@ -147,11 +170,14 @@ func concaveRightWolfeNWAlphaEm3Minimize(x0 [1]float64, lim ConcaveRightWolfeNWA
 		out.status = ConcaveRightWolfeNWAlphaEm3NonFiniteStart
 		return out
 	}
-	if out.evaluations+concaveRightWolfeNWAlphaEm3DerivativeCost > lim.Evaluations {
+	var diffs concaveRightWolfeNWAlphaEm3Differences
+	calls, ok := concaveRightWolfeNWAlphaEm3Calibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
+	out.evaluations += calls
+	if !ok || out.evaluations+concaveRightWolfeNWAlphaEm3DerivativeCost > lim.Evaluations {
 		return out
 	}
-	var g [1]float64
-	concaveRightWolfeNWAlphaEm3Derivative(&x, fx, &g)
+	var g, e [1]float64
+	concaveRightWolfeNWAlphaEm3Derivative(&x, fx, &g, &diffs)
 	out.evaluations += concaveRightWolfeNWAlphaEm3DerivativeCost
 
 	if !concaveRightWolfeNWAlphaEm3FiniteVec(&g) {
@@ -162,21 +188,76 @@ func concaveRightWolfeNWAlphaEm3Minimize(x0 [1]float64, lim ConcaveRightWolfeNWA
 	dir.reset()
 	var d, xt, gt, s, y [1]float64
 	t, slope := float64(concaveRightWolfeNWAlphaEm3StepInitial), float64(0) // the previous iteration's accepted step and slope
+	best := out                                                             // the lowest point seen, for runs that end unconverged
+	start, rises := fx, 0                                                   // f(x0), and consecutive accepted steps that raised f above it
+	confirmed := false                                                      // whether g and e at x come from concaveRightWolfeNWAlphaEm3ConfirmGradient
+	stalled := false                                                        // whether the run can make no more progress at x
+	retried := -1                                                           // the iteration whose stall was retried with recalibrated differences
 	for {
-		if concaveRightWolfeNWAlphaEm3MaxAbs(&g) <= lim.Gradient {
+		if !confirmed {
+			concaveRightWolfeNWAlphaEm3GradientError(&x, fx, &g, &e, &diffs)
+		}
+		measure, floor := concaveRightWolfeNWAlphaEm3GradientMeasure(&g, &e, &x, fx)
+		out.gradient, out.gradientLimit = measure, concaveRightWolfeNWAlphaEm3Larger(lim.Gradient, 3*floor)
+		if stalled {
+			// No step can make progress here: the gradient is as small as
+			// this point shows it, within ten times the limit or the floor.
+			out.gradientLimit = 10 * concaveRightWolfeNWAlphaEm3Larger(lim.Gradient, floor)
+		}
+		if out.f <= best.f {
+			best = out
+		}
+		if measure <= out.gradientLimit && (concaveRightWolfeNWAlphaEm3DerivativeCost == 0 || confirmed) {
 			out.status = ConcaveRightWolfeNWAlphaEm3GradientSmall
 			return out
 		}
-		if out.iterations > 0 {
+		if measure <= out.gradientLimit {
+			// Differences pass the test: confirm it with intervals chosen
+			// here and an error measured rather than modelled.
+			calls, ok := concaveRightWolfeNWAlphaEm3ConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(ConcaveRightWolfeNWAlphaEm3OutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !concaveRightWolfeNWAlphaEm3FiniteVec(&g) {
+				return best.ending(ConcaveRightWolfeNWAlphaEm3NonFiniteGradient, out.iterations, out.evaluations)
+			}
+			confirmed = true
+			continue
+		}
+		if stalled {
+			// Settled and still above the limit: stalled, unless
+			// differences, whose intervals were just chosen here, can
+			// search once more with the better gradient.
+			if concaveRightWolfeNWAlphaEm3DerivativeCost == 0 {
+				return best.ending(ConcaveRightWolfeNWAlphaEm3Stalled, out.iterations, out.evaluations)
+			}
+			stalled, retried = false, out.iterations
+		}
+		// At a stall, settle first: the run is converged if the gradient
+		// is zero to the rounding of x (and, with differences, to their
+		// accuracy, confirmed); see settle.
+		canSettle := retried != out.iterations
+		if out.iterations > 0 && canSettle {
 			if concaveRightWolfeNWAlphaEm3StepWithin(&s, &x, lim.Step) {
-				out.status = ConcaveRightWolfeNWAlphaEm3StepTiny
-				return out
+				calls, ok := concaveRightWolfeNWAlphaEm3Settle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+				out.evaluations += calls
+				if !ok {
+					return best.ending(ConcaveRightWolfeNWAlphaEm3OutOfEvaluations, out.iterations, out.evaluations)
+				}
+				if !concaveRightWolfeNWAlphaEm3FiniteVec(&g) {
+					return best.ending(ConcaveRightWolfeNWAlphaEm3NonFiniteGradient, out.iterations, out.evaluations)
+				}
+				stalled, confirmed = true, true
+				continue
+			}
+			if rises >= 8 {
+				return best.ending(ConcaveRightWolfeNWAlphaEm3Diverged, out.iterations, out.evaluations)
 			}
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
-			out.status = ConcaveRightWolfeNWAlphaEm3OutOfIterations
-			return out
+			return best.ending(ConcaveRightWolfeNWAlphaEm3OutOfIterations, out.iterations, out.evaluations)
 		}
 		dir.compute(&g, &d)
 		now := concaveRightWolfeNWAlphaEm3Dot(&g, &d)
@@ -190,50 +271,70 @@ func concaveRightWolfeNWAlphaEm3Minimize(x0 [1]float64, lim ConcaveRightWolfeNWA
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := concaveRightWolfeNWAlphaEm3TinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := concaveRightWolfeNWAlphaEm3LineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt)
+		found := concaveRightWolfeNWAlphaEm3LineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case concaveRightWolfeNWAlphaEm3SearchOutOfBudget:
-			return out
-		case concaveRightWolfeNWAlphaEm3SearchExhausted:
-			out.status = ConcaveRightWolfeNWAlphaEm3NoAcceptableStep
-			return out
-		case concaveRightWolfeNWAlphaEm3SearchTiny:
-			// Converged to the step limit: no step the step test would
-			// reject decreases f. Not so when an analytic gradient is
-			// contradicted by f rising in proportion to the step (see
-			// concaveRightWolfeNWAlphaEm3RiseTrend, which never reports that for differences).
-			out.status = ConcaveRightWolfeNWAlphaEm3StepTiny
-			if found.rising {
-				out.status = ConcaveRightWolfeNWAlphaEm3NoDecrease
+			return best.ending(ConcaveRightWolfeNWAlphaEm3OutOfEvaluations, out.iterations, out.evaluations)
+		case concaveRightWolfeNWAlphaEm3SearchDiverged:
+			return best.ending(ConcaveRightWolfeNWAlphaEm3Diverged, out.iterations, out.evaluations)
+		case concaveRightWolfeNWAlphaEm3SearchExhausted, concaveRightWolfeNWAlphaEm3SearchTiny:
+			// No acceptable step. When an analytic gradient predicted a
+			// fall that f contradicted in proportion to the step, the
+			// gradient is probably wrong (see concaveRightWolfeNWAlphaEm3RiseTrend, which never
+			// reports that for differences); otherwise the search stalled
+			// below the step limit, or ran out of trials.
+			end := ConcaveRightWolfeNWAlphaEm3NoAcceptableStep
+			switch {
+			case found.rising:
+				end = ConcaveRightWolfeNWAlphaEm3NoDecrease
+			case found.end == concaveRightWolfeNWAlphaEm3SearchTiny && canSettle:
+				calls, ok := concaveRightWolfeNWAlphaEm3Settle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+				out.evaluations += calls
+				if !ok {
+					return best.ending(ConcaveRightWolfeNWAlphaEm3OutOfEvaluations, out.iterations, out.evaluations)
+				}
+				if !concaveRightWolfeNWAlphaEm3FiniteVec(&g) {
+					return best.ending(ConcaveRightWolfeNWAlphaEm3NonFiniteGradient, out.iterations, out.evaluations)
+				}
+				stalled, confirmed = true, true
+				continue
+			case found.end == concaveRightWolfeNWAlphaEm3SearchTiny:
+				end = ConcaveRightWolfeNWAlphaEm3Stalled
 			}
-			return out
+			return best.ending(end, out.iterations, out.evaluations)
 		}
 		if !concaveRightWolfeNWAlphaEm3FiniteVec(&xt) {
-			out.status = ConcaveRightWolfeNWAlphaEm3NoAcceptableStep // the accepted trial overflowed x
-			return out
+			return best.ending(ConcaveRightWolfeNWAlphaEm3NoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
 		}
 		if !found.gradient {
 			if out.evaluations+concaveRightWolfeNWAlphaEm3DerivativeCost > lim.Evaluations {
-				if found.value < fx { // keep a better point even without its gradient
-					out.x, out.f = xt, found.value
+				if found.value < best.f { // keep a better point even without its gradient
+					best.x, best.f, best.gradient = xt, found.value, math.NaN()
 					out.iterations++
 				}
-				return out
+				return best.ending(ConcaveRightWolfeNWAlphaEm3OutOfEvaluations, out.iterations, out.evaluations)
 			}
-			concaveRightWolfeNWAlphaEm3Derivative(&xt, found.value, &gt)
+			concaveRightWolfeNWAlphaEm3Derivative(&xt, found.value, &gt, &diffs)
 			out.evaluations += concaveRightWolfeNWAlphaEm3DerivativeCost
 		}
 		out.iterations++
 		concaveRightWolfeNWAlphaEm3Difference(&s, &xt, &x)
 		concaveRightWolfeNWAlphaEm3Difference(&y, &gt, &g)
-		x, fx, g = xt, found.value, gt
-		out.x, out.f = x, fx
+		if found.value > fx && found.value > start {
+			rises++
+		} else {
+			rises = 0
+		}
+		x, fx, g, confirmed = xt, found.value, gt, false
+		out.x, out.f, out.gradient = x, fx, math.NaN()
 		t, slope = found.step, now
 
 		if !concaveRightWolfeNWAlphaEm3FiniteVec(&g) {
-			out.status = ConcaveRightWolfeNWAlphaEm3NonFiniteGradient
-			return out
+			if out.f < best.f {
+				best = out
+			}
+			return best.ending(ConcaveRightWolfeNWAlphaEm3NonFiniteGradient, out.iterations, out.evaluations)
 		}
 	}
 }
@@ -241,11 +342,19 @@ func concaveRightWolfeNWAlphaEm3Minimize(x0 [1]float64, lim ConcaveRightWolfeNWA
 // concaveRightWolfeNWAlphaEm3Outcome is the kernel's report; the generated entry point copies it into
 // the spec's result type.
 type concaveRightWolfeNWAlphaEm3Outcome struct {
-	x           [1]float64
-	f           float64
-	iterations  int
-	evaluations int
-	status      ConcaveRightWolfeNWAlphaEm3Status
+	x             [1]float64
+	f             float64
+	gradient      float64 // the stop test's measure at x, error bound included; NaN when not known
+	gradientLimit float64 // the limit that measure was held to
+	iterations    int
+	evaluations   int
+	status        ConcaveRightWolfeNWAlphaEm3Status
+}
+
+// ending is the best point seen, reported with the run's end and counts.
+func (o concaveRightWolfeNWAlphaEm3Outcome) ending(end ConcaveRightWolfeNWAlphaEm3Status, iterations, evaluations int) concaveRightWolfeNWAlphaEm3Outcome {
+	o.status, o.iterations, o.evaluations = end, iterations, evaluations
+	return o
 }
 
 // concaveRightWolfeNWAlphaEm3Finite reports whether v is neither NaN nor ±Inf, by comparing it with
@@ -270,8 +379,24 @@ func concaveRightWolfeNWAlphaEm3FiniteVec(x *[1]float64) bool {
 	return true
 }
 
+// concaveRightWolfeNWAlphaEm3Differences is what the difference gradients learn from the objective
+// at the start: for each coordinate i, the interval as a multiple of
+// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
+// forward differences, |f‴| for central ones). The analytic gradient
+// leaves it unused.
+type concaveRightWolfeNWAlphaEm3Differences struct {
+	ratio     [1]float64
+	curvature [1]float64
+	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see concaveRightWolfeNWAlphaEm3RoundingFloor)
+}
+
+// concaveRightWolfeNWAlphaEm3Calibrate: an analytic gradient needs no intervals.
+func concaveRightWolfeNWAlphaEm3Calibrate(x *[1]float64, fx float64, diffs *concaveRightWolfeNWAlphaEm3Differences, budget int) (int, bool) {
+	return 0, true
+}
+
 // concaveRightWolfeNWAlphaEm3Derivative calls the user's gradient; it costs no objective calls.
-func concaveRightWolfeNWAlphaEm3Derivative(x *[1]float64, fx float64, g *[1]float64) {
+func concaveRightWolfeNWAlphaEm3Derivative(x *[1]float64, fx float64, g *[1]float64, diffs *concaveRightWolfeNWAlphaEm3Differences) {
 	g[0] = ConcaveRightDeriv(x[0])
 }
 
@@ -311,15 +436,43 @@ func concaveRightWolfeNWAlphaEm3ScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
-// concaveRightWolfeNWAlphaEm3MaxAbs returns the largest |x_i|, the infinity norm.
-func concaveRightWolfeNWAlphaEm3MaxAbs(x *[1]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := concaveRightWolfeNWAlphaEm3Abs(x[i]); a > m || a != a {
-			m = a
-		}
+// concaveRightWolfeNWAlphaEm3GradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func concaveRightWolfeNWAlphaEm3GradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *concaveRightWolfeNWAlphaEm3Differences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return m
+}
+
+// concaveRightWolfeNWAlphaEm3GradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func concaveRightWolfeNWAlphaEm3GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
+	scale := concaveRightWolfeNWAlphaEm3Larger(concaveRightWolfeNWAlphaEm3Abs(fx), 1)
+	for i := range g {
+		w := concaveRightWolfeNWAlphaEm3Larger(concaveRightWolfeNWAlphaEm3Abs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = concaveRightWolfeNWAlphaEm3Larger(measure, (concaveRightWolfeNWAlphaEm3Abs(g[i])+e[i])*w)
+		floor = concaveRightWolfeNWAlphaEm3Larger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// concaveRightWolfeNWAlphaEm3Larger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func concaveRightWolfeNWAlphaEm3Larger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
 }
 
 // concaveRightWolfeNWAlphaEm3Abs returns |v|.
@@ -328,6 +481,36 @@ func concaveRightWolfeNWAlphaEm3Abs(v float64) float64 {
 		return -v
 	}
 	return v
+}
+
+// concaveRightWolfeNWAlphaEm3ConfirmGradient recomputes a difference gradient at x before the run is
+// called converged there: it chooses the intervals again from the
+// curvature at x (calibrate), computes g with them and with twice them,
+// and bounds each component's error by the model (concaveRightWolfeNWAlphaEm3GradientError) plus
+// three times the change the doubling made. That change measures what the
+// model can miss, truncation from curvature that varies and rounding
+// noise above 4u·|f|; as one sample of that noise it is tripled
+// (Richardson's idea of comparing two intervals; the factor is common
+// practice for a posteriori error estimates). It costs a calibration and two
+// gradients, and returns the calls spent and false when budget ran out
+// first.
+func concaveRightWolfeNWAlphaEm3ConfirmGradient(x *[1]float64, fx float64, g, e *[1]float64, diffs *concaveRightWolfeNWAlphaEm3Differences, budget int) (int, bool) {
+	calls, ok := concaveRightWolfeNWAlphaEm3Calibrate(x, fx, diffs, budget)
+	if !ok || calls+2*concaveRightWolfeNWAlphaEm3DerivativeCost > budget {
+		return calls, false
+	}
+	wide := *diffs
+	for i := range wide.ratio {
+		wide.ratio[i] *= 2
+	}
+	var doubled [1]float64
+	concaveRightWolfeNWAlphaEm3Derivative(x, fx, g, diffs)
+	concaveRightWolfeNWAlphaEm3Derivative(x, fx, &doubled, &wide)
+	concaveRightWolfeNWAlphaEm3GradientError(x, fx, g, e, diffs)
+	for i := range e {
+		e[i] += 3 * concaveRightWolfeNWAlphaEm3Abs(g[i]-doubled[i])
+	}
+	return calls + 2*concaveRightWolfeNWAlphaEm3DerivativeCost, true
 }
 
 // concaveRightWolfeNWAlphaEm3StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
@@ -340,6 +523,65 @@ func concaveRightWolfeNWAlphaEm3StepWithin(s, x *[1]float64, tol float64) bool {
 		}
 	}
 	return true
+}
+
+// concaveRightWolfeNWAlphaEm3Settle prepares the final verdict at a stall: with differences it
+// confirms the gradient (concaveRightWolfeNWAlphaEm3ConfirmGradient), then it adds to each error
+// bound the rounding floor of x (concaveRightWolfeNWAlphaEm3RoundingFloor). It returns the objective
+// calls spent and false when budget ran out first.
+func concaveRightWolfeNWAlphaEm3Settle(x *[1]float64, fx float64, g, e *[1]float64, diffs *concaveRightWolfeNWAlphaEm3Differences, budget int) (int, bool) {
+	calls := 0
+	if concaveRightWolfeNWAlphaEm3DerivativeCost > 0 {
+		spent, ok := concaveRightWolfeNWAlphaEm3ConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
+	}
+	concaveRightWolfeNWAlphaEm3RoundingFloor(x, g, e, diffs)
+	return calls, true
+}
+
+// concaveRightWolfeNWAlphaEm3RoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
+// that moving xᵢ by a few of its rounding units makes in gᵢ:
+// where no step the step test resolves decreases f, a gradient that small
+// is zero to the rounding of x (the resolution of x in floating point,
+// common practice). It is added only at a stall, so a gradient far above
+// it still ends the run as stalled.
+func concaveRightWolfeNWAlphaEm3RoundingFloor(x, g, e *[1]float64, diffs *concaveRightWolfeNWAlphaEm3Differences) {
+	var h [1]float64
+	concaveRightWolfeNWAlphaEm3DiagonalCurvature(x, g, diffs, &h)
+	for i := range e {
+		e[i] += 4 * concaveRightWolfeNWAlphaEm3UnitRoundoff * concaveRightWolfeNWAlphaEm3Abs(x[i]) * h[i]
+	}
+}
+
+// concaveRightWolfeNWAlphaEm3DiagonalCurvature estimates each |∂²f/∂xᵢ²| from the analytic gradient
+// at x + δᵢeᵢ, δᵢ = √u·max(1, |xᵢ|): dim gradient calls and no objective
+// call (a forward difference of the gradient, Nocedal & Wright 2006,
+// §8.1).
+func concaveRightWolfeNWAlphaEm3DiagonalCurvature(x, g *[1]float64, diffs *concaveRightWolfeNWAlphaEm3Differences, h *[1]float64) {
+	probe := *x
+	var moved [1]float64
+	for i := range probe {
+		xi := probe[i]
+		up, delta := concaveRightWolfeNWAlphaEm3ProbeStep(xi, concaveRightWolfeNWAlphaEm3SquareRoot(concaveRightWolfeNWAlphaEm3UnitRoundoff)*concaveRightWolfeNWAlphaEm3Larger(1, concaveRightWolfeNWAlphaEm3Abs(xi)))
+		probe[i] = up
+		moved[0] = ConcaveRightDeriv(probe[0])
+		h[i] = concaveRightWolfeNWAlphaEm3Abs(moved[i]-g[i]) / delta
+		probe[i] = xi
+	}
+}
+
+// concaveRightWolfeNWAlphaEm3ProbeStep returns x_i moved by h, and the step actually representable.
+func concaveRightWolfeNWAlphaEm3ProbeStep(xi, h float64) (float64, float64) {
+	moved := xi + h
+	return moved, moved - xi
+}
+
+// concaveRightWolfeNWAlphaEm3SquareRoot returns √v.
+func concaveRightWolfeNWAlphaEm3SquareRoot(v float64) float64 {
+	return math.Sqrt(v)
 }
 
 // concaveRightWolfeNWAlphaEm3Dot returns aᵀb.
@@ -387,7 +629,7 @@ func concaveRightWolfeNWAlphaEm3TinyStep(x, d *[1]float64, tol float64) float64 
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func concaveRightWolfeNWAlphaEm3LineSearch(x *[1]float64, fx float64, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64) concaveRightWolfeNWAlphaEm3LineResult {
+func concaveRightWolfeNWAlphaEm3LineSearch(x *[1]float64, fx float64, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *concaveRightWolfeNWAlphaEm3Differences) concaveRightWolfeNWAlphaEm3LineResult {
 	low := concaveRightWolfeNWAlphaEm3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveRightWolfeNWAlphaEm3LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                           // ∇f at low, kept for accepting low from a collapsed bracket
@@ -419,7 +661,7 @@ func concaveRightWolfeNWAlphaEm3LineSearch(x *[1]float64, fx float64, d *[1]floa
 			if calls+concaveRightWolfeNWAlphaEm3DerivativeCost > budget {
 				return concaveRightWolfeNWAlphaEm3LineResult{calls: calls, end: concaveRightWolfeNWAlphaEm3SearchOutOfBudget}
 			}
-			concaveRightWolfeNWAlphaEm3Derivative(xt, current.value, gt)
+			concaveRightWolfeNWAlphaEm3Derivative(xt, current.value, gt, diffs)
 			calls += concaveRightWolfeNWAlphaEm3DerivativeCost
 			current.slope, current.hasSlope = concaveRightWolfeNWAlphaEm3Dot(gt, d), true
 			switch {
@@ -444,7 +686,7 @@ func concaveRightWolfeNWAlphaEm3LineSearch(x *[1]float64, fx float64, d *[1]floa
 	if low.step > 0 {
 		return concaveRightWolfeNWAlphaEm3AcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
 	}
-	return concaveRightWolfeNWAlphaEm3LineResult{calls: calls, end: concaveRightWolfeNWAlphaEm3SearchExhausted}
+	return concaveRightWolfeNWAlphaEm3LineResult{calls: calls, rising: trend.contradicts(), end: concaveRightWolfeNWAlphaEm3SearchExhausted}
 }
 
 // concaveRightWolfeNWAlphaEm3LineResult is what a line search reports to the kernel.
@@ -545,6 +787,7 @@ const (
 	concaveRightWolfeNWAlphaEm3SearchExhausted                                               // concaveRightWolfeNWAlphaEm3StepTrials trials met none
 	concaveRightWolfeNWAlphaEm3SearchOutOfBudget                                             // the evaluation cap came first
 	concaveRightWolfeNWAlphaEm3SearchTiny                                                    // every step longer than tiny failed to decrease f
+	concaveRightWolfeNWAlphaEm3SearchDiverged                                                // a fixed step's value overflowed
 )
 
 // concaveRightWolfeNWAlphaEm3AcceptLow ends a Wolfe search with its best trial, which met sufficient
@@ -610,11 +853,6 @@ func concaveRightWolfeNWAlphaEm3ModelMinimizer(a, b *concaveRightWolfeNWAlphaEm3
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, concaveRightWolfeNWAlphaEm3Finite(t)
-}
-
-// concaveRightWolfeNWAlphaEm3SquareRoot returns √v.
-func concaveRightWolfeNWAlphaEm3SquareRoot(v float64) float64 {
-	return math.Sqrt(v)
 }
 
 // concaveRightWolfeNWAlphaEm3ClampBetween returns v limited to the interval with ends a and b, in

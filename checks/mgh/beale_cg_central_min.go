@@ -8,10 +8,10 @@ import "math"
 type BealeCGCentralStatus uint8
 
 const (
-	// BealeCGCentralGradientSmall: the largest gradient component fell to the gradient limit: converged.
+	// BealeCGCentralGradientSmall: the gradient test holds at X: its measure, with the differences' error bound when they are used, is at most the gradient limit: converged.
 	BealeCGCentralGradientSmall BealeCGCentralStatus = iota + 1
-	// BealeCGCentralStepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f: converged.
-	BealeCGCentralStepTiny
+	// BealeCGCentralStalled: the step test ended the run, or no step longer than the step limit decreased f, while the gradient test still fails: X is as far as the run could get, not a verified minimizer.
+	BealeCGCentralStalled
 	// BealeCGCentralOutOfIterations: the iteration limit came first.
 	BealeCGCentralOutOfIterations
 	// BealeCGCentralOutOfEvaluations: the next objective call would have exceeded the evaluation cap.
@@ -22,8 +22,10 @@ const (
 	BealeCGCentralNonFiniteStart
 	// BealeCGCentralNonFiniteGradient: a gradient component became NaN or ±Inf.
 	BealeCGCentralNonFiniteGradient
-	// BealeCGCentralNoDecrease: no step longer than the step limit decreased f, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test).
+	// BealeCGCentralNoDecrease: the line search found no acceptable step, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test).
 	BealeCGCentralNoDecrease
+	// BealeCGCentralDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
+	BealeCGCentralDiverged
 )
 
 // String describes the status in a few words.
@@ -31,8 +33,8 @@ func (s BealeCGCentralStatus) String() string {
 	switch s {
 	case BealeCGCentralGradientSmall:
 		return "gradient small"
-	case BealeCGCentralStepTiny:
-		return "step tiny"
+	case BealeCGCentralStalled:
+		return "stalled"
 	case BealeCGCentralOutOfIterations:
 		return "out of iterations"
 	case BealeCGCentralOutOfEvaluations:
@@ -45,28 +47,32 @@ func (s BealeCGCentralStatus) String() string {
 		return "non-finite gradient"
 	case BealeCGCentralNoDecrease:
 		return "no decrease"
+	case BealeCGCentralDiverged:
+		return "diverged"
 	default:
 		return "unknown status"
 	}
 }
 
-// Converged reports whether a convergence test, on the gradient or on the step, ended the run; limits, line-search failure and non-finite values are not convergence.
+// Converged reports whether the gradient test holds at X (Gradient ≤ GradientLimit in the result): only then is X a verified stationary point; a stall, the limits, line-search failure and non-finite values are not convergence.
 func (s BealeCGCentralStatus) Converged() bool {
-	return s == BealeCGCentralGradientSmall || s == BealeCGCentralStepTiny
+	return s == BealeCGCentralGradientSmall
 }
 
 // BealeCGCentralResult is where BealeCGCentral stopped and why.
 type BealeCGCentralResult struct {
-	X           [2]float64           // the last accepted point, the best one found
-	F           float64              // the objective at X
-	Iterations  int                  // accepted steps
-	Evaluations int                  // objective calls, finite differences included
-	Status      BealeCGCentralStatus // why the run stopped; check Status.Converged()
+	X             [2]float64           // where the gradient test held, when converged; else the lowest point seen
+	F             float64              // the objective at X
+	Gradient      float64              // the gradient test's measure at X, the differences' error bound included; NaN when the run ended before the gradient at X was known
+	GradientLimit float64              // the limit Gradient was held to: Limits.Gradient, raised with differences to ten times the measure of their error bound; converged runs have Gradient ≤ GradientLimit
+	Iterations    int                  // accepted steps
+	Evaluations   int                  // objective calls, finite differences included
+	Status        BealeCGCentralStatus // why the run stopped; check Status.Converged()
 }
 
 // BealeCGCentralLimits are the stop limits of one run. Pass them to BealeCGCentralWithLimits to change them at run time; BealeCGCentralDefaultLimits returns the spec's.
 type BealeCGCentralLimits struct {
-	Gradient    float64 // stop when the largest |∂f/∂xᵢ| is at most this
+	Gradient    float64 // stop, converged, when the gradient test's measure is at most this (with differences, at most ten times the measure of their error bound where that is larger)
 	Step        float64 // stop when every |Δxᵢ| is at most this·(|xᵢ| + 1)
 	Iterations  int     // most accepted steps
 	Evaluations int     // hard cap on objective calls, finite differences included; never exceeded
@@ -86,11 +92,12 @@ func BealeCGCentralDefaultLimits() BealeCGCentralLimits {
 //
 // Direction cg: nonlinear conjugate gradients, Polak–Ribière clipped at zero (PR+), restarted every dim steps.
 // Step rule strong-wolfe: bracket and zoom until sufficient decrease and the strong curvature condition hold.
-// Derivative central: central differences: 2·dim objective calls per gradient, error O(u^(2/3)).
+// Derivative central: central differences: 2·dim objective calls per gradient, intervals from the objective's curvature, error O(u^(2/3)).
+// Gradient test relative: max over i of (|∂f/∂xᵢ| + eᵢ)·max(|xᵢ|, 1)/max(|f(x)|, 1), eᵢ the error bound of differences (0 for an analytic gradient).
 // Constants: initial 1.0, c1 0.0001, c2 0.1, at most 48 trials per line search.
-// Default stop: largest gradient component ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
+// Default stop: gradient measure ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
 //
-// Worst case: 200000 objective calls, 4 of them per gradient (the evaluation cap; the iteration limit alone would allow 1200005). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
+// Worst case: 200000 objective calls, 4 of them per gradient and 8 per choice of the difference intervals (at the start and before each convergence is confirmed) (the evaluation cap; the iteration limit alone would allow 1280269). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
 func BealeCGCentral(x0 [2]float64) BealeCGCentralResult {
 	return BealeCGCentralWithLimits(x0, BealeCGCentralDefaultLimits())
@@ -100,11 +107,13 @@ func BealeCGCentral(x0 [2]float64) BealeCGCentralResult {
 func BealeCGCentralWithLimits(x0 [2]float64, limits BealeCGCentralLimits) BealeCGCentralResult {
 	out := bealeCGCentralMinimize(x0, limits)
 	return BealeCGCentralResult{
-		Evaluations: out.evaluations,
-		F:           out.f,
-		Iterations:  out.iterations,
-		Status:      out.status,
-		X:           out.x,
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
 	}
 }
 
@@ -117,27 +126,40 @@ const (
 	bealeCGCentralDerivativeCost = 4                      // objective calls per gradient
 	bealeCGCentralUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
 	bealeCGCentralLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
-	bealeCGCentralCentralScale   = 4.806217383937352e-06  // ∛u, central-difference step scale (Nocedal & Wright 2006, §8.1)
 )
 
 // bealeCGCentralMinimize runs the descent loop from x0 within lim:
 //
-//  1. stop when the largest gradient component is at most lim.Gradient;
+//  1. stop, converged, when the gradient measure (bealeCGCentralGradientMeasure, error
+//     bound of differences included) is at most the limit: lim.Gradient,
+//     or three times the measure of the differences' error bound when that is
+//     larger, so that the limit can be met (the floor the test can see);
+//     differences confirm it first (bealeCGCentralConfirmGradient);
 //  2. stop after lim.Iterations accepted steps;
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
-//  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged,
-//     unless f contradicts an analytic gradient: no decrease);
+//  4. search along d; stop when no trial is acceptable or only steps
+//     shorter than the step limit are left to try: stalled, or no
+//     decrease when f contradicts an analytic gradient (see bealeCGCentralRiseTrend);
 //  5. move, refresh the gradient, let the direction learn from the step;
-//  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
+//  6. stop, stalled, when every |Δx_i| is at most lim.Step·(|x_i| + 1) while
+//     the gradient test still fails. At a stall the run settles first
+//     (settle): the error bound gains the rounding floor of x, with
+//     differences confirmed, and the limit rises to ten times the larger
+//     of lim.Gradient and the bound's measure; a gradient within that is
+//     as small as this point can show, and the run is converged with that
+//     limit, which it reports.
 //
-// Before every objective call it checks that lim.Evaluations leaves room
-// for it, so the cap is never exceeded. A NaN or ±Inf at the start or in a
+// Only step 1 is convergence: the first-order test holds at X. Before
+// every objective call it checks that lim.Evaluations leaves room for it,
+// so the cap is never exceeded. A NaN or ±Inf at the start or in a
 // gradient ends the run with its own status; a non-finite trial value is
-// rejected by the line search like any failed trial.
+// rejected by the line search like any failed trial. X is the best point
+// seen unless the run converged, which it did at X. A fixed step whose
+// value overflows, or that raised f above f(x0) at eight steps in a row,
+// ends the run as diverged (common practice for a divergence test).
 func bealeCGCentralMinimize(x0 [2]float64, lim BealeCGCentralLimits) bealeCGCentralOutcome {
-	out := bealeCGCentralOutcome{x: x0, status: BealeCGCentralOutOfEvaluations}
+	out := bealeCGCentralOutcome{x: x0, status: BealeCGCentralOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
@@ -148,11 +170,14 @@ func bealeCGCentralMinimize(x0 [2]float64, lim BealeCGCentralLimits) bealeCGCent
 		out.status = BealeCGCentralNonFiniteStart
 		return out
 	}
-	if out.evaluations+bealeCGCentralDerivativeCost > lim.Evaluations {
+	var diffs bealeCGCentralDifferences
+	calls, ok := bealeCGCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
+	out.evaluations += calls
+	if !ok || out.evaluations+bealeCGCentralDerivativeCost > lim.Evaluations {
 		return out
 	}
-	var g [2]float64
-	bealeCGCentralDerivative(&x, fx, &g)
+	var g, e [2]float64
+	bealeCGCentralDerivative(&x, fx, &g, &diffs)
 	out.evaluations += bealeCGCentralDerivativeCost
 
 	if !bealeCGCentralFiniteVec(&g) {
@@ -163,21 +188,76 @@ func bealeCGCentralMinimize(x0 [2]float64, lim BealeCGCentralLimits) bealeCGCent
 	dir.reset()
 	var d, xt, gt, s, y [2]float64
 	t, slope := float64(bealeCGCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
+	best := out                                                // the lowest point seen, for runs that end unconverged
+	start, rises := fx, 0                                      // f(x0), and consecutive accepted steps that raised f above it
+	confirmed := false                                         // whether g and e at x come from bealeCGCentralConfirmGradient
+	stalled := false                                           // whether the run can make no more progress at x
+	retried := -1                                              // the iteration whose stall was retried with recalibrated differences
 	for {
-		if bealeCGCentralMaxAbs(&g) <= lim.Gradient {
+		if !confirmed {
+			bealeCGCentralGradientError(&x, fx, &g, &e, &diffs)
+		}
+		measure, floor := bealeCGCentralGradientMeasure(&g, &e, &x, fx)
+		out.gradient, out.gradientLimit = measure, bealeCGCentralLarger(lim.Gradient, 3*floor)
+		if stalled {
+			// No step can make progress here: the gradient is as small as
+			// this point shows it, within ten times the limit or the floor.
+			out.gradientLimit = 10 * bealeCGCentralLarger(lim.Gradient, floor)
+		}
+		if out.f <= best.f {
+			best = out
+		}
+		if measure <= out.gradientLimit && (bealeCGCentralDerivativeCost == 0 || confirmed) {
 			out.status = BealeCGCentralGradientSmall
 			return out
 		}
-		if out.iterations > 0 {
+		if measure <= out.gradientLimit {
+			// Differences pass the test: confirm it with intervals chosen
+			// here and an error measured rather than modelled.
+			calls, ok := bealeCGCentralConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(BealeCGCentralOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !bealeCGCentralFiniteVec(&g) {
+				return best.ending(BealeCGCentralNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			confirmed = true
+			continue
+		}
+		if stalled {
+			// Settled and still above the limit: stalled, unless
+			// differences, whose intervals were just chosen here, can
+			// search once more with the better gradient.
+			if bealeCGCentralDerivativeCost == 0 {
+				return best.ending(BealeCGCentralStalled, out.iterations, out.evaluations)
+			}
+			stalled, retried = false, out.iterations
+		}
+		// At a stall, settle first: the run is converged if the gradient
+		// is zero to the rounding of x (and, with differences, to their
+		// accuracy, confirmed); see settle.
+		canSettle := retried != out.iterations
+		if out.iterations > 0 && canSettle {
 			if bealeCGCentralStepWithin(&s, &x, lim.Step) {
-				out.status = BealeCGCentralStepTiny
-				return out
+				calls, ok := bealeCGCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+				out.evaluations += calls
+				if !ok {
+					return best.ending(BealeCGCentralOutOfEvaluations, out.iterations, out.evaluations)
+				}
+				if !bealeCGCentralFiniteVec(&g) {
+					return best.ending(BealeCGCentralNonFiniteGradient, out.iterations, out.evaluations)
+				}
+				stalled, confirmed = true, true
+				continue
+			}
+			if rises >= 8 {
+				return best.ending(BealeCGCentralDiverged, out.iterations, out.evaluations)
 			}
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
-			out.status = BealeCGCentralOutOfIterations
-			return out
+			return best.ending(BealeCGCentralOutOfIterations, out.iterations, out.evaluations)
 		}
 		dir.compute(&g, &d)
 		now := bealeCGCentralDot(&g, &d)
@@ -191,50 +271,70 @@ func bealeCGCentralMinimize(x0 [2]float64, lim BealeCGCentralLimits) bealeCGCent
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := bealeCGCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := bealeCGCentralLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt)
+		found := bealeCGCentralLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case bealeCGCentralSearchOutOfBudget:
-			return out
-		case bealeCGCentralSearchExhausted:
-			out.status = BealeCGCentralNoAcceptableStep
-			return out
-		case bealeCGCentralSearchTiny:
-			// Converged to the step limit: no step the step test would
-			// reject decreases f. Not so when an analytic gradient is
-			// contradicted by f rising in proportion to the step (see
-			// bealeCGCentralRiseTrend, which never reports that for differences).
-			out.status = BealeCGCentralStepTiny
-			if found.rising {
-				out.status = BealeCGCentralNoDecrease
+			return best.ending(BealeCGCentralOutOfEvaluations, out.iterations, out.evaluations)
+		case bealeCGCentralSearchDiverged:
+			return best.ending(BealeCGCentralDiverged, out.iterations, out.evaluations)
+		case bealeCGCentralSearchExhausted, bealeCGCentralSearchTiny:
+			// No acceptable step. When an analytic gradient predicted a
+			// fall that f contradicted in proportion to the step, the
+			// gradient is probably wrong (see bealeCGCentralRiseTrend, which never
+			// reports that for differences); otherwise the search stalled
+			// below the step limit, or ran out of trials.
+			end := BealeCGCentralNoAcceptableStep
+			switch {
+			case found.rising:
+				end = BealeCGCentralNoDecrease
+			case found.end == bealeCGCentralSearchTiny && canSettle:
+				calls, ok := bealeCGCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+				out.evaluations += calls
+				if !ok {
+					return best.ending(BealeCGCentralOutOfEvaluations, out.iterations, out.evaluations)
+				}
+				if !bealeCGCentralFiniteVec(&g) {
+					return best.ending(BealeCGCentralNonFiniteGradient, out.iterations, out.evaluations)
+				}
+				stalled, confirmed = true, true
+				continue
+			case found.end == bealeCGCentralSearchTiny:
+				end = BealeCGCentralStalled
 			}
-			return out
+			return best.ending(end, out.iterations, out.evaluations)
 		}
 		if !bealeCGCentralFiniteVec(&xt) {
-			out.status = BealeCGCentralNoAcceptableStep // the accepted trial overflowed x
-			return out
+			return best.ending(BealeCGCentralNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
 		}
 		if !found.gradient {
 			if out.evaluations+bealeCGCentralDerivativeCost > lim.Evaluations {
-				if found.value < fx { // keep a better point even without its gradient
-					out.x, out.f = xt, found.value
+				if found.value < best.f { // keep a better point even without its gradient
+					best.x, best.f, best.gradient = xt, found.value, math.NaN()
 					out.iterations++
 				}
-				return out
+				return best.ending(BealeCGCentralOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			bealeCGCentralDerivative(&xt, found.value, &gt)
+			bealeCGCentralDerivative(&xt, found.value, &gt, &diffs)
 			out.evaluations += bealeCGCentralDerivativeCost
 		}
 		out.iterations++
 		bealeCGCentralDifference(&s, &xt, &x)
 		bealeCGCentralDifference(&y, &gt, &g)
-		x, fx, g = xt, found.value, gt
-		out.x, out.f = x, fx
+		if found.value > fx && found.value > start {
+			rises++
+		} else {
+			rises = 0
+		}
+		x, fx, g, confirmed = xt, found.value, gt, false
+		out.x, out.f, out.gradient = x, fx, math.NaN()
 		t, slope = found.step, now
 
 		if !bealeCGCentralFiniteVec(&g) {
-			out.status = BealeCGCentralNonFiniteGradient
-			return out
+			if out.f < best.f {
+				best = out
+			}
+			return best.ending(BealeCGCentralNonFiniteGradient, out.iterations, out.evaluations)
 		}
 	}
 }
@@ -242,11 +342,19 @@ func bealeCGCentralMinimize(x0 [2]float64, lim BealeCGCentralLimits) bealeCGCent
 // bealeCGCentralOutcome is the kernel's report; the generated entry point copies it into
 // the spec's result type.
 type bealeCGCentralOutcome struct {
-	x           [2]float64
-	f           float64
-	iterations  int
-	evaluations int
-	status      BealeCGCentralStatus
+	x             [2]float64
+	f             float64
+	gradient      float64 // the stop test's measure at x, error bound included; NaN when not known
+	gradientLimit float64 // the limit that measure was held to
+	iterations    int
+	evaluations   int
+	status        BealeCGCentralStatus
+}
+
+// ending is the best point seen, reported with the run's end and counts.
+func (o bealeCGCentralOutcome) ending(end BealeCGCentralStatus, iterations, evaluations int) bealeCGCentralOutcome {
+	o.status, o.iterations, o.evaluations = end, iterations, evaluations
+	return o
 }
 
 // bealeCGCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
@@ -271,26 +379,81 @@ func bealeCGCentralFiniteVec(x *[2]float64) bool {
 	return true
 }
 
-// bealeCGCentralDerivative approximates the gradient by central differences,
+// bealeCGCentralDifferences is what the difference gradients learn from the objective
+// at the start: for each coordinate i, the interval as a multiple of
+// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
+// forward differences, |f‴| for central ones). The analytic gradient
+// leaves it unused.
+type bealeCGCentralDifferences struct {
+	ratio     [2]float64
+	curvature [2]float64
+	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see bealeCGCentralRoundingFloor)
+}
+
+// bealeCGCentralCalibrate chooses each central-difference interval from the
+// third derivative along e_i, estimated at x with four probes at ±h̄ and
+// ±2h̄, h̄ = u^(1/4)·s, s = max(1, |x_i|):
 //
-//	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),  h_i = ∛u · max(1, |x_i|),
+//	f‴ ≈ (f(x + 2h̄eᵢ) − 2f(x + h̄eᵢ) + 2f(x − h̄eᵢ) − f(x − 2h̄eᵢ)) / (2h̄³),
+//	h_i  = ∛(3ε_A / |f‴|)
 //
-// with error O(h²) (Nocedal & Wright 2006, eq. 8.7 and §8.1). It costs
-// 2·dim objective calls; fx is not needed.
-func bealeCGCentralDerivative(x *[2]float64, fx float64, g *[2]float64) {
+// the interval that minimizes the truncation error h²|f‴|/6 plus the
+// rounding error ε_A/h of a central difference (Nocedal & Wright 2006,
+// §8.1, with the third-derivative estimate of the forward interval's
+// procedure of Gill, Murray, Saunders & Wright 1983 carried one order
+// up), with ε_A from bealeCGCentralNoiseLevel and the probes' slopes. An estimate below
+// its rounding noise 3ε_A/h̄³ is replaced by that noise, and h_i is kept
+// within [64u·s, h̄]. It costs four objective calls per unknown.
+func bealeCGCentralCalibrate(x *[2]float64, fx float64, diffs *bealeCGCentralDifferences, budget int) (int, bool) {
 	probe := *x
+	var slope [2]float64
+	scale := bealeCGCentralAbs(fx)
+	quarter := bealeCGCentralSquareRoot(bealeCGCentralSquareRoot(bealeCGCentralUnitRoundoff)) // u^(1/4)
 	for i := range probe {
+		if 4*(i+1) > budget {
+			return 4 * i, false
+		}
 		xi := probe[i]
-		h := bealeCGCentralCentralScale * bealeCGCentralLarger(1, bealeCGCentralAbs(xi)) // N&W §8.1: h = ∛u·max(1,|x_i|)
-		up := xi + h
-		down := xi - h
-		probe[i] = up
-		fUp := Beale(&probe)
-		probe[i] = down
-		fDown := Beale(&probe)
-		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+		bar := quarter * bealeCGCentralLarger(1, bealeCGCentralAbs(xi))
+		var f [4]float64
+		for k, m := range [4]float64{2, 1, -1, -2} {
+			probe[i], _ = bealeCGCentralProbeStep(xi, m*bar)
+			f[k] = Beale(&probe)
+			scale = bealeCGCentralLarger(scale, bealeCGCentralMagnitude(f[k]))
+		}
 		probe[i] = xi
+		if bealeCGCentralFinite(f[0]) && bealeCGCentralFinite(f[1]) && bealeCGCentralFinite(f[2]) && bealeCGCentralFinite(f[3]) {
+			diffs.curvature[i] = bealeCGCentralAbs(f[0]-2*f[1]+2*f[2]-f[3]) / (2 * bar * bar * bar)
+			diffs.second[i] = bealeCGCentralAbs(f[1]-2*fx+f[2]) / (bar * bar)
+			slope[i] = (f[1] - f[2]) / (2 * bar)
+		}
 	}
+	noise := bealeCGCentralNoiseLevel(x, scale, &slope)
+	for i := range probe {
+		s := bealeCGCentralLarger(1, bealeCGCentralAbs(probe[i]))
+		bar := quarter * s
+		third := bealeCGCentralLarger(diffs.curvature[i], 3*noise/(bar*bar*bar))
+		h := bar
+		if third > 0 {
+			h = bealeCGCentralCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+		}
+		diffs.ratio[i] = bealeCGCentralClampBetween(h, 64*bealeCGCentralUnitRoundoff*s, bar) / s
+		diffs.curvature[i] = third
+	}
+	return 4 * len(probe), true
+}
+
+// bealeCGCentralAbs returns |v|.
+func bealeCGCentralAbs(v float64) float64 {
+	if v < 0 {
+		return -v
+	}
+	return v
+}
+
+// bealeCGCentralSquareRoot returns √v.
+func bealeCGCentralSquareRoot(v float64) float64 {
+	return math.Sqrt(v)
 }
 
 // bealeCGCentralLarger returns the larger of a and b, or a NaN among them. The builtin
@@ -303,12 +466,81 @@ func bealeCGCentralLarger(a, b float64) float64 {
 	return b
 }
 
-// bealeCGCentralAbs returns |v|.
-func bealeCGCentralAbs(v float64) float64 {
-	if v < 0 {
-		return -v
+// bealeCGCentralProbeStep returns x_i moved by h, and the step actually representable.
+func bealeCGCentralProbeStep(xi, h float64) (float64, float64) {
+	moved := xi + h
+	return moved, moved - xi
+}
+
+// bealeCGCentralMagnitude is |v| for a finite v and 0 otherwise: a probe that fell
+// outside the objective's domain says nothing about its rounding.
+func bealeCGCentralMagnitude(v float64) float64 {
+	if !bealeCGCentralFinite(v) {
+		return 0
+	}
+	return bealeCGCentralAbs(v)
+}
+
+// bealeCGCentralNoiseLevel is the absolute error assumed in a computed value fx of the
+// objective at x, where its gradient is about g:
+//
+//	ε_A = 4u·(|fx| + Σᵢ |gᵢ·xᵢ|),
+//
+// a few roundings of the result plus the change that rounding each xᵢ by
+// a relative u makes in f, which is what an objective computed with
+// cancellation inside (y − x² in Rosenbrock's valley) shows near a zero
+// minimum, where u·|f| alone vanishes (the first-order error of
+// evaluating f at a rounded x; the factor 4 is common practice; Gill,
+// Murray, Saunders & Wright 1983 leave ε_A to the user).
+func bealeCGCentralNoiseLevel(x *[2]float64, fx float64, g *[2]float64) float64 {
+	sum := bealeCGCentralAbs(fx)
+	for i := range x {
+		sum += bealeCGCentralAbs(g[i] * x[i])
+	}
+	return 4 * bealeCGCentralUnitRoundoff * sum
+}
+
+// bealeCGCentralCubeRoot returns ∛v for v ≥ 0.
+func bealeCGCentralCubeRoot(v float64) float64 {
+	return math.Cbrt(v)
+}
+
+// bealeCGCentralClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func bealeCGCentralClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
 	}
 	return v
+}
+
+// bealeCGCentralDerivative approximates the gradient by central differences,
+//
+//	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),
+//
+// with the intervals bealeCGCentralCalibrate chose, h_i = ratio_i·max(1, |x_i|)
+// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls; fx is
+// not needed.
+func bealeCGCentralDerivative(x *[2]float64, fx float64, g *[2]float64, diffs *bealeCGCentralDifferences) {
+	probe := *x
+	for i := range probe {
+		xi := probe[i]
+		h := diffs.ratio[i] * bealeCGCentralLarger(1, bealeCGCentralAbs(xi))
+		up, _ := bealeCGCentralProbeStep(xi, h)
+		down, _ := bealeCGCentralProbeStep(xi, -h)
+		probe[i] = up
+		fUp := Beale(&probe)
+		probe[i] = down
+		fDown := Beale(&probe)
+		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+		probe[i] = xi
+	}
 }
 
 // bealeCGCentralDirection is nonlinear conjugate gradients with the Polak–Ribière
@@ -383,15 +615,67 @@ func bealeCGCentralScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
-// bealeCGCentralMaxAbs returns the largest |x_i|, the infinity norm.
-func bealeCGCentralMaxAbs(x *[2]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := bealeCGCentralAbs(x[i]); a > m || a != a {
-			m = a
-		}
+// bealeCGCentralGradientError bounds each central difference's error by twice its
+// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
+// in forwardError).
+func bealeCGCentralGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *bealeCGCentralDifferences) {
+	noise := bealeCGCentralNoiseLevel(x, fx, g)
+	for i := range e {
+		h := diffs.ratio[i] * bealeCGCentralLarger(1, bealeCGCentralAbs(x[i]))
+		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
 	}
-	return m
+}
+
+// bealeCGCentralGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func bealeCGCentralGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
+	scale := bealeCGCentralLarger(bealeCGCentralAbs(fx), 1)
+	for i := range g {
+		w := bealeCGCentralLarger(bealeCGCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = bealeCGCentralLarger(measure, (bealeCGCentralAbs(g[i])+e[i])*w)
+		floor = bealeCGCentralLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// bealeCGCentralConfirmGradient recomputes a difference gradient at x before the run is
+// called converged there: it chooses the intervals again from the
+// curvature at x (calibrate), computes g with them and with twice them,
+// and bounds each component's error by the model (bealeCGCentralGradientError) plus
+// three times the change the doubling made. That change measures what the
+// model can miss, truncation from curvature that varies and rounding
+// noise above 4u·|f|; as one sample of that noise it is tripled
+// (Richardson's idea of comparing two intervals; the factor is common
+// practice for a posteriori error estimates). It costs a calibration and two
+// gradients, and returns the calls spent and false when budget ran out
+// first.
+func bealeCGCentralConfirmGradient(x *[2]float64, fx float64, g, e *[2]float64, diffs *bealeCGCentralDifferences, budget int) (int, bool) {
+	calls, ok := bealeCGCentralCalibrate(x, fx, diffs, budget)
+	if !ok || calls+2*bealeCGCentralDerivativeCost > budget {
+		return calls, false
+	}
+	wide := *diffs
+	for i := range wide.ratio {
+		wide.ratio[i] *= 2
+	}
+	var doubled [2]float64
+	bealeCGCentralDerivative(x, fx, g, diffs)
+	bealeCGCentralDerivative(x, fx, &doubled, &wide)
+	bealeCGCentralGradientError(x, fx, g, e, diffs)
+	for i := range e {
+		e[i] += 3 * bealeCGCentralAbs(g[i]-doubled[i])
+	}
+	return calls + 2*bealeCGCentralDerivativeCost, true
 }
 
 // bealeCGCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
@@ -404,6 +688,43 @@ func bealeCGCentralStepWithin(s, x *[2]float64, tol float64) bool {
 		}
 	}
 	return true
+}
+
+// bealeCGCentralSettle prepares the final verdict at a stall: with differences it
+// confirms the gradient (bealeCGCentralConfirmGradient), then it adds to each error
+// bound the rounding floor of x (bealeCGCentralRoundingFloor). It returns the objective
+// calls spent and false when budget ran out first.
+func bealeCGCentralSettle(x *[2]float64, fx float64, g, e *[2]float64, diffs *bealeCGCentralDifferences, budget int) (int, bool) {
+	calls := 0
+	if bealeCGCentralDerivativeCost > 0 {
+		spent, ok := bealeCGCentralConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
+	}
+	bealeCGCentralRoundingFloor(x, g, e, diffs)
+	return calls, true
+}
+
+// bealeCGCentralRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
+// that moving xᵢ by a few of its rounding units makes in gᵢ:
+// where no step the step test resolves decreases f, a gradient that small
+// is zero to the rounding of x (the resolution of x in floating point,
+// common practice). It is added only at a stall, so a gradient far above
+// it still ends the run as stalled.
+func bealeCGCentralRoundingFloor(x, g, e *[2]float64, diffs *bealeCGCentralDifferences) {
+	var h [2]float64
+	bealeCGCentralDiagonalCurvature(x, g, diffs, &h)
+	for i := range e {
+		e[i] += 4 * bealeCGCentralUnitRoundoff * bealeCGCentralAbs(x[i]) * h[i]
+	}
+}
+
+// bealeCGCentralDiagonalCurvature takes each |f″| along eᵢ from the differences' last
+// calibration, which bealeCGCentralConfirmGradient has just made at x.
+func bealeCGCentralDiagonalCurvature(x, g *[2]float64, diffs *bealeCGCentralDifferences, h *[2]float64) {
+	*h = diffs.second
 }
 
 // bealeCGCentralTinyStep returns the longest t for which the step t·d from x passes the
@@ -442,7 +763,7 @@ func bealeCGCentralTinyStep(x, d *[2]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func bealeCGCentralLineSearch(x *[2]float64, fx float64, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64) bealeCGCentralLineResult {
+func bealeCGCentralLineSearch(x *[2]float64, fx float64, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *bealeCGCentralDifferences) bealeCGCentralLineResult {
 	low := bealeCGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high bealeCGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                              // ∇f at low, kept for accepting low from a collapsed bracket
@@ -474,7 +795,7 @@ func bealeCGCentralLineSearch(x *[2]float64, fx float64, d *[2]float64, slope, f
 			if calls+bealeCGCentralDerivativeCost > budget {
 				return bealeCGCentralLineResult{calls: calls, end: bealeCGCentralSearchOutOfBudget}
 			}
-			bealeCGCentralDerivative(xt, current.value, gt)
+			bealeCGCentralDerivative(xt, current.value, gt, diffs)
 			calls += bealeCGCentralDerivativeCost
 			current.slope, current.hasSlope = bealeCGCentralDot(gt, d), true
 			switch {
@@ -499,7 +820,7 @@ func bealeCGCentralLineSearch(x *[2]float64, fx float64, d *[2]float64, slope, f
 	if low.step > 0 {
 		return bealeCGCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
 	}
-	return bealeCGCentralLineResult{calls: calls, end: bealeCGCentralSearchExhausted}
+	return bealeCGCentralLineResult{calls: calls, rising: trend.contradicts(), end: bealeCGCentralSearchExhausted}
 }
 
 // bealeCGCentralLineResult is what a line search reports to the kernel.
@@ -600,6 +921,7 @@ const (
 	bealeCGCentralSearchExhausted                                  // bealeCGCentralStepTrials trials met none
 	bealeCGCentralSearchOutOfBudget                                // the evaluation cap came first
 	bealeCGCentralSearchTiny                                       // every step longer than tiny failed to decrease f
+	bealeCGCentralSearchDiverged                                   // a fixed step's value overflowed
 )
 
 // bealeCGCentralAcceptLow ends a Wolfe search with its best trial, which met sufficient
@@ -665,26 +987,6 @@ func bealeCGCentralModelMinimizer(a, b *bealeCGCentralLinePoint) (t float64, ok 
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, bealeCGCentralFinite(t)
-}
-
-// bealeCGCentralSquareRoot returns √v.
-func bealeCGCentralSquareRoot(v float64) float64 {
-	return math.Sqrt(v)
-}
-
-// bealeCGCentralClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func bealeCGCentralClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // bealeCGCentralExpandTrial picks a larger trial after current met sufficient decrease

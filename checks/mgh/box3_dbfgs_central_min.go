@@ -8,10 +8,10 @@ import "math"
 type Box3DBFGSCentralStatus uint8
 
 const (
-	// Box3DBFGSCentralGradientSmall: the largest gradient component fell to the gradient limit: converged.
+	// Box3DBFGSCentralGradientSmall: the gradient test holds at X: its measure, with the differences' error bound when they are used, is at most the gradient limit: converged.
 	Box3DBFGSCentralGradientSmall Box3DBFGSCentralStatus = iota + 1
-	// Box3DBFGSCentralStepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f: converged.
-	Box3DBFGSCentralStepTiny
+	// Box3DBFGSCentralStalled: the step test ended the run, or no step longer than the step limit decreased f, while the gradient test still fails: X is as far as the run could get, not a verified minimizer.
+	Box3DBFGSCentralStalled
 	// Box3DBFGSCentralOutOfIterations: the iteration limit came first.
 	Box3DBFGSCentralOutOfIterations
 	// Box3DBFGSCentralOutOfEvaluations: the next objective call would have exceeded the evaluation cap.
@@ -22,8 +22,10 @@ const (
 	Box3DBFGSCentralNonFiniteStart
 	// Box3DBFGSCentralNonFiniteGradient: a gradient component became NaN or ±Inf.
 	Box3DBFGSCentralNonFiniteGradient
-	// Box3DBFGSCentralNoDecrease: no step longer than the step limit decreased f, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test).
+	// Box3DBFGSCentralNoDecrease: the line search found no acceptable step, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test).
 	Box3DBFGSCentralNoDecrease
+	// Box3DBFGSCentralDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
+	Box3DBFGSCentralDiverged
 )
 
 // String describes the status in a few words.
@@ -31,8 +33,8 @@ func (s Box3DBFGSCentralStatus) String() string {
 	switch s {
 	case Box3DBFGSCentralGradientSmall:
 		return "gradient small"
-	case Box3DBFGSCentralStepTiny:
-		return "step tiny"
+	case Box3DBFGSCentralStalled:
+		return "stalled"
 	case Box3DBFGSCentralOutOfIterations:
 		return "out of iterations"
 	case Box3DBFGSCentralOutOfEvaluations:
@@ -45,28 +47,32 @@ func (s Box3DBFGSCentralStatus) String() string {
 		return "non-finite gradient"
 	case Box3DBFGSCentralNoDecrease:
 		return "no decrease"
+	case Box3DBFGSCentralDiverged:
+		return "diverged"
 	default:
 		return "unknown status"
 	}
 }
 
-// Converged reports whether a convergence test, on the gradient or on the step, ended the run; limits, line-search failure and non-finite values are not convergence.
+// Converged reports whether the gradient test holds at X (Gradient ≤ GradientLimit in the result): only then is X a verified stationary point; a stall, the limits, line-search failure and non-finite values are not convergence.
 func (s Box3DBFGSCentralStatus) Converged() bool {
-	return s == Box3DBFGSCentralGradientSmall || s == Box3DBFGSCentralStepTiny
+	return s == Box3DBFGSCentralGradientSmall
 }
 
 // Box3DBFGSCentralResult is where Box3DBFGSCentral stopped and why.
 type Box3DBFGSCentralResult struct {
-	X           [3]float64             // the last accepted point, the best one found
-	F           float64                // the objective at X
-	Iterations  int                    // accepted steps
-	Evaluations int                    // objective calls, finite differences included
-	Status      Box3DBFGSCentralStatus // why the run stopped; check Status.Converged()
+	X             [3]float64             // where the gradient test held, when converged; else the lowest point seen
+	F             float64                // the objective at X
+	Gradient      float64                // the gradient test's measure at X, the differences' error bound included; NaN when the run ended before the gradient at X was known
+	GradientLimit float64                // the limit Gradient was held to: Limits.Gradient, raised with differences to ten times the measure of their error bound; converged runs have Gradient ≤ GradientLimit
+	Iterations    int                    // accepted steps
+	Evaluations   int                    // objective calls, finite differences included
+	Status        Box3DBFGSCentralStatus // why the run stopped; check Status.Converged()
 }
 
 // Box3DBFGSCentralLimits are the stop limits of one run. Pass them to Box3DBFGSCentralWithLimits to change them at run time; Box3DBFGSCentralDefaultLimits returns the spec's.
 type Box3DBFGSCentralLimits struct {
-	Gradient    float64 // stop when the largest |∂f/∂xᵢ| is at most this
+	Gradient    float64 // stop, converged, when the gradient test's measure is at most this (with differences, at most ten times the measure of their error bound where that is larger)
 	Step        float64 // stop when every |Δxᵢ| is at most this·(|xᵢ| + 1)
 	Iterations  int     // most accepted steps
 	Evaluations int     // hard cap on objective calls, finite differences included; never exceeded
@@ -86,11 +92,12 @@ func Box3DBFGSCentralDefaultLimits() Box3DBFGSCentralLimits {
 //
 // Direction bfgs: BFGS quasi-Newton with a dense inverse-Hessian approximation (dim² numbers).
 // Step rule wolfe: bracket and zoom until sufficient decrease and the curvature condition hold.
-// Derivative central: central differences: 2·dim objective calls per gradient, error O(u^(2/3)).
+// Derivative central: central differences: 2·dim objective calls per gradient, intervals from the objective's curvature, error O(u^(2/3)).
+// Gradient test relative: max over i of (|∂f/∂xᵢ| + eᵢ)·max(|xᵢ|, 1)/max(|f(x)|, 1), eᵢ the error bound of differences (0 for an analytic gradient).
 // Constants: initial 1.0, c1 0.0001, c2 0.9, at most 48 trials per line search.
-// Default stop: largest gradient component ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
+// Default stop: gradient measure ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
 //
-// Worst case: 200000 objective calls, 6 of them per gradient (the evaluation cap; the iteration limit alone would allow 1680007). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
+// Worst case: 200000 objective calls, 6 of them per gradient and 12 per choice of the difference intervals (at the start and before each convergence is confirmed) (the evaluation cap; the iteration limit alone would allow 1800379). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
 func Box3DBFGSCentral(x0 [3]float64) Box3DBFGSCentralResult {
 	return Box3DBFGSCentralWithLimits(x0, Box3DBFGSCentralDefaultLimits())
@@ -100,11 +107,13 @@ func Box3DBFGSCentral(x0 [3]float64) Box3DBFGSCentralResult {
 func Box3DBFGSCentralWithLimits(x0 [3]float64, limits Box3DBFGSCentralLimits) Box3DBFGSCentralResult {
 	out := box3DBFGSCentralMinimize(x0, limits)
 	return Box3DBFGSCentralResult{
-		Evaluations: out.evaluations,
-		F:           out.f,
-		Iterations:  out.iterations,
-		Status:      out.status,
-		X:           out.x,
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
 	}
 }
 
@@ -117,27 +126,40 @@ const (
 	box3DBFGSCentralDerivativeCost = 6                      // objective calls per gradient
 	box3DBFGSCentralUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
 	box3DBFGSCentralLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
-	box3DBFGSCentralCentralScale   = 4.806217383937352e-06  // ∛u, central-difference step scale (Nocedal & Wright 2006, §8.1)
 )
 
 // box3DBFGSCentralMinimize runs the descent loop from x0 within lim:
 //
-//  1. stop when the largest gradient component is at most lim.Gradient;
+//  1. stop, converged, when the gradient measure (box3DBFGSCentralGradientMeasure, error
+//     bound of differences included) is at most the limit: lim.Gradient,
+//     or three times the measure of the differences' error bound when that is
+//     larger, so that the limit can be met (the floor the test can see);
+//     differences confirm it first (box3DBFGSCentralConfirmGradient);
 //  2. stop after lim.Iterations accepted steps;
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
-//  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged,
-//     unless f contradicts an analytic gradient: no decrease);
+//  4. search along d; stop when no trial is acceptable or only steps
+//     shorter than the step limit are left to try: stalled, or no
+//     decrease when f contradicts an analytic gradient (see box3DBFGSCentralRiseTrend);
 //  5. move, refresh the gradient, let the direction learn from the step;
-//  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
+//  6. stop, stalled, when every |Δx_i| is at most lim.Step·(|x_i| + 1) while
+//     the gradient test still fails. At a stall the run settles first
+//     (settle): the error bound gains the rounding floor of x, with
+//     differences confirmed, and the limit rises to ten times the larger
+//     of lim.Gradient and the bound's measure; a gradient within that is
+//     as small as this point can show, and the run is converged with that
+//     limit, which it reports.
 //
-// Before every objective call it checks that lim.Evaluations leaves room
-// for it, so the cap is never exceeded. A NaN or ±Inf at the start or in a
+// Only step 1 is convergence: the first-order test holds at X. Before
+// every objective call it checks that lim.Evaluations leaves room for it,
+// so the cap is never exceeded. A NaN or ±Inf at the start or in a
 // gradient ends the run with its own status; a non-finite trial value is
-// rejected by the line search like any failed trial.
+// rejected by the line search like any failed trial. X is the best point
+// seen unless the run converged, which it did at X. A fixed step whose
+// value overflows, or that raised f above f(x0) at eight steps in a row,
+// ends the run as diverged (common practice for a divergence test).
 func box3DBFGSCentralMinimize(x0 [3]float64, lim Box3DBFGSCentralLimits) box3DBFGSCentralOutcome {
-	out := box3DBFGSCentralOutcome{x: x0, status: Box3DBFGSCentralOutOfEvaluations}
+	out := box3DBFGSCentralOutcome{x: x0, status: Box3DBFGSCentralOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
@@ -148,11 +170,14 @@ func box3DBFGSCentralMinimize(x0 [3]float64, lim Box3DBFGSCentralLimits) box3DBF
 		out.status = Box3DBFGSCentralNonFiniteStart
 		return out
 	}
-	if out.evaluations+box3DBFGSCentralDerivativeCost > lim.Evaluations {
+	var diffs box3DBFGSCentralDifferences
+	calls, ok := box3DBFGSCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
+	out.evaluations += calls
+	if !ok || out.evaluations+box3DBFGSCentralDerivativeCost > lim.Evaluations {
 		return out
 	}
-	var g [3]float64
-	box3DBFGSCentralDerivative(&x, fx, &g)
+	var g, e [3]float64
+	box3DBFGSCentralDerivative(&x, fx, &g, &diffs)
 	out.evaluations += box3DBFGSCentralDerivativeCost
 
 	if !box3DBFGSCentralFiniteVec(&g) {
@@ -163,21 +188,76 @@ func box3DBFGSCentralMinimize(x0 [3]float64, lim Box3DBFGSCentralLimits) box3DBF
 	dir.reset()
 	var d, xt, gt, s, y [3]float64
 	t, slope := float64(box3DBFGSCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
+	best := out                                                  // the lowest point seen, for runs that end unconverged
+	start, rises := fx, 0                                        // f(x0), and consecutive accepted steps that raised f above it
+	confirmed := false                                           // whether g and e at x come from box3DBFGSCentralConfirmGradient
+	stalled := false                                             // whether the run can make no more progress at x
+	retried := -1                                                // the iteration whose stall was retried with recalibrated differences
 	for {
-		if box3DBFGSCentralMaxAbs(&g) <= lim.Gradient {
+		if !confirmed {
+			box3DBFGSCentralGradientError(&x, fx, &g, &e, &diffs)
+		}
+		measure, floor := box3DBFGSCentralGradientMeasure(&g, &e, &x, fx)
+		out.gradient, out.gradientLimit = measure, box3DBFGSCentralLarger(lim.Gradient, 3*floor)
+		if stalled {
+			// No step can make progress here: the gradient is as small as
+			// this point shows it, within ten times the limit or the floor.
+			out.gradientLimit = 10 * box3DBFGSCentralLarger(lim.Gradient, floor)
+		}
+		if out.f <= best.f {
+			best = out
+		}
+		if measure <= out.gradientLimit && (box3DBFGSCentralDerivativeCost == 0 || confirmed) {
 			out.status = Box3DBFGSCentralGradientSmall
 			return out
 		}
-		if out.iterations > 0 {
+		if measure <= out.gradientLimit {
+			// Differences pass the test: confirm it with intervals chosen
+			// here and an error measured rather than modelled.
+			calls, ok := box3DBFGSCentralConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(Box3DBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !box3DBFGSCentralFiniteVec(&g) {
+				return best.ending(Box3DBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			confirmed = true
+			continue
+		}
+		if stalled {
+			// Settled and still above the limit: stalled, unless
+			// differences, whose intervals were just chosen here, can
+			// search once more with the better gradient.
+			if box3DBFGSCentralDerivativeCost == 0 {
+				return best.ending(Box3DBFGSCentralStalled, out.iterations, out.evaluations)
+			}
+			stalled, retried = false, out.iterations
+		}
+		// At a stall, settle first: the run is converged if the gradient
+		// is zero to the rounding of x (and, with differences, to their
+		// accuracy, confirmed); see settle.
+		canSettle := retried != out.iterations
+		if out.iterations > 0 && canSettle {
 			if box3DBFGSCentralStepWithin(&s, &x, lim.Step) {
-				out.status = Box3DBFGSCentralStepTiny
-				return out
+				calls, ok := box3DBFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+				out.evaluations += calls
+				if !ok {
+					return best.ending(Box3DBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+				}
+				if !box3DBFGSCentralFiniteVec(&g) {
+					return best.ending(Box3DBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
+				}
+				stalled, confirmed = true, true
+				continue
+			}
+			if rises >= 8 {
+				return best.ending(Box3DBFGSCentralDiverged, out.iterations, out.evaluations)
 			}
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
-			out.status = Box3DBFGSCentralOutOfIterations
-			return out
+			return best.ending(Box3DBFGSCentralOutOfIterations, out.iterations, out.evaluations)
 		}
 		dir.compute(&g, &d)
 		now := box3DBFGSCentralDot(&g, &d)
@@ -191,50 +271,70 @@ func box3DBFGSCentralMinimize(x0 [3]float64, lim Box3DBFGSCentralLimits) box3DBF
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := box3DBFGSCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := box3DBFGSCentralLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt)
+		found := box3DBFGSCentralLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case box3DBFGSCentralSearchOutOfBudget:
-			return out
-		case box3DBFGSCentralSearchExhausted:
-			out.status = Box3DBFGSCentralNoAcceptableStep
-			return out
-		case box3DBFGSCentralSearchTiny:
-			// Converged to the step limit: no step the step test would
-			// reject decreases f. Not so when an analytic gradient is
-			// contradicted by f rising in proportion to the step (see
-			// box3DBFGSCentralRiseTrend, which never reports that for differences).
-			out.status = Box3DBFGSCentralStepTiny
-			if found.rising {
-				out.status = Box3DBFGSCentralNoDecrease
+			return best.ending(Box3DBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+		case box3DBFGSCentralSearchDiverged:
+			return best.ending(Box3DBFGSCentralDiverged, out.iterations, out.evaluations)
+		case box3DBFGSCentralSearchExhausted, box3DBFGSCentralSearchTiny:
+			// No acceptable step. When an analytic gradient predicted a
+			// fall that f contradicted in proportion to the step, the
+			// gradient is probably wrong (see box3DBFGSCentralRiseTrend, which never
+			// reports that for differences); otherwise the search stalled
+			// below the step limit, or ran out of trials.
+			end := Box3DBFGSCentralNoAcceptableStep
+			switch {
+			case found.rising:
+				end = Box3DBFGSCentralNoDecrease
+			case found.end == box3DBFGSCentralSearchTiny && canSettle:
+				calls, ok := box3DBFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+				out.evaluations += calls
+				if !ok {
+					return best.ending(Box3DBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+				}
+				if !box3DBFGSCentralFiniteVec(&g) {
+					return best.ending(Box3DBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
+				}
+				stalled, confirmed = true, true
+				continue
+			case found.end == box3DBFGSCentralSearchTiny:
+				end = Box3DBFGSCentralStalled
 			}
-			return out
+			return best.ending(end, out.iterations, out.evaluations)
 		}
 		if !box3DBFGSCentralFiniteVec(&xt) {
-			out.status = Box3DBFGSCentralNoAcceptableStep // the accepted trial overflowed x
-			return out
+			return best.ending(Box3DBFGSCentralNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
 		}
 		if !found.gradient {
 			if out.evaluations+box3DBFGSCentralDerivativeCost > lim.Evaluations {
-				if found.value < fx { // keep a better point even without its gradient
-					out.x, out.f = xt, found.value
+				if found.value < best.f { // keep a better point even without its gradient
+					best.x, best.f, best.gradient = xt, found.value, math.NaN()
 					out.iterations++
 				}
-				return out
+				return best.ending(Box3DBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			box3DBFGSCentralDerivative(&xt, found.value, &gt)
+			box3DBFGSCentralDerivative(&xt, found.value, &gt, &diffs)
 			out.evaluations += box3DBFGSCentralDerivativeCost
 		}
 		out.iterations++
 		box3DBFGSCentralDifference(&s, &xt, &x)
 		box3DBFGSCentralDifference(&y, &gt, &g)
-		x, fx, g = xt, found.value, gt
-		out.x, out.f = x, fx
+		if found.value > fx && found.value > start {
+			rises++
+		} else {
+			rises = 0
+		}
+		x, fx, g, confirmed = xt, found.value, gt, false
+		out.x, out.f, out.gradient = x, fx, math.NaN()
 		t, slope = found.step, now
 
 		if !box3DBFGSCentralFiniteVec(&g) {
-			out.status = Box3DBFGSCentralNonFiniteGradient
-			return out
+			if out.f < best.f {
+				best = out
+			}
+			return best.ending(Box3DBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
 		}
 	}
 }
@@ -242,11 +342,19 @@ func box3DBFGSCentralMinimize(x0 [3]float64, lim Box3DBFGSCentralLimits) box3DBF
 // box3DBFGSCentralOutcome is the kernel's report; the generated entry point copies it into
 // the spec's result type.
 type box3DBFGSCentralOutcome struct {
-	x           [3]float64
-	f           float64
-	iterations  int
-	evaluations int
-	status      Box3DBFGSCentralStatus
+	x             [3]float64
+	f             float64
+	gradient      float64 // the stop test's measure at x, error bound included; NaN when not known
+	gradientLimit float64 // the limit that measure was held to
+	iterations    int
+	evaluations   int
+	status        Box3DBFGSCentralStatus
+}
+
+// ending is the best point seen, reported with the run's end and counts.
+func (o box3DBFGSCentralOutcome) ending(end Box3DBFGSCentralStatus, iterations, evaluations int) box3DBFGSCentralOutcome {
+	o.status, o.iterations, o.evaluations = end, iterations, evaluations
+	return o
 }
 
 // box3DBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
@@ -271,26 +379,81 @@ func box3DBFGSCentralFiniteVec(x *[3]float64) bool {
 	return true
 }
 
-// box3DBFGSCentralDerivative approximates the gradient by central differences,
+// box3DBFGSCentralDifferences is what the difference gradients learn from the objective
+// at the start: for each coordinate i, the interval as a multiple of
+// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
+// forward differences, |f‴| for central ones). The analytic gradient
+// leaves it unused.
+type box3DBFGSCentralDifferences struct {
+	ratio     [3]float64
+	curvature [3]float64
+	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see box3DBFGSCentralRoundingFloor)
+}
+
+// box3DBFGSCentralCalibrate chooses each central-difference interval from the
+// third derivative along e_i, estimated at x with four probes at ±h̄ and
+// ±2h̄, h̄ = u^(1/4)·s, s = max(1, |x_i|):
 //
-//	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),  h_i = ∛u · max(1, |x_i|),
+//	f‴ ≈ (f(x + 2h̄eᵢ) − 2f(x + h̄eᵢ) + 2f(x − h̄eᵢ) − f(x − 2h̄eᵢ)) / (2h̄³),
+//	h_i  = ∛(3ε_A / |f‴|)
 //
-// with error O(h²) (Nocedal & Wright 2006, eq. 8.7 and §8.1). It costs
-// 2·dim objective calls; fx is not needed.
-func box3DBFGSCentralDerivative(x *[3]float64, fx float64, g *[3]float64) {
+// the interval that minimizes the truncation error h²|f‴|/6 plus the
+// rounding error ε_A/h of a central difference (Nocedal & Wright 2006,
+// §8.1, with the third-derivative estimate of the forward interval's
+// procedure of Gill, Murray, Saunders & Wright 1983 carried one order
+// up), with ε_A from box3DBFGSCentralNoiseLevel and the probes' slopes. An estimate below
+// its rounding noise 3ε_A/h̄³ is replaced by that noise, and h_i is kept
+// within [64u·s, h̄]. It costs four objective calls per unknown.
+func box3DBFGSCentralCalibrate(x *[3]float64, fx float64, diffs *box3DBFGSCentralDifferences, budget int) (int, bool) {
 	probe := *x
+	var slope [3]float64
+	scale := box3DBFGSCentralAbs(fx)
+	quarter := box3DBFGSCentralSquareRoot(box3DBFGSCentralSquareRoot(box3DBFGSCentralUnitRoundoff)) // u^(1/4)
 	for i := range probe {
+		if 4*(i+1) > budget {
+			return 4 * i, false
+		}
 		xi := probe[i]
-		h := box3DBFGSCentralCentralScale * box3DBFGSCentralLarger(1, box3DBFGSCentralAbs(xi)) // N&W §8.1: h = ∛u·max(1,|x_i|)
-		up := xi + h
-		down := xi - h
-		probe[i] = up
-		fUp := Box3D(&probe)
-		probe[i] = down
-		fDown := Box3D(&probe)
-		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+		bar := quarter * box3DBFGSCentralLarger(1, box3DBFGSCentralAbs(xi))
+		var f [4]float64
+		for k, m := range [4]float64{2, 1, -1, -2} {
+			probe[i], _ = box3DBFGSCentralProbeStep(xi, m*bar)
+			f[k] = Box3D(&probe)
+			scale = box3DBFGSCentralLarger(scale, box3DBFGSCentralMagnitude(f[k]))
+		}
 		probe[i] = xi
+		if box3DBFGSCentralFinite(f[0]) && box3DBFGSCentralFinite(f[1]) && box3DBFGSCentralFinite(f[2]) && box3DBFGSCentralFinite(f[3]) {
+			diffs.curvature[i] = box3DBFGSCentralAbs(f[0]-2*f[1]+2*f[2]-f[3]) / (2 * bar * bar * bar)
+			diffs.second[i] = box3DBFGSCentralAbs(f[1]-2*fx+f[2]) / (bar * bar)
+			slope[i] = (f[1] - f[2]) / (2 * bar)
+		}
 	}
+	noise := box3DBFGSCentralNoiseLevel(x, scale, &slope)
+	for i := range probe {
+		s := box3DBFGSCentralLarger(1, box3DBFGSCentralAbs(probe[i]))
+		bar := quarter * s
+		third := box3DBFGSCentralLarger(diffs.curvature[i], 3*noise/(bar*bar*bar))
+		h := bar
+		if third > 0 {
+			h = box3DBFGSCentralCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+		}
+		diffs.ratio[i] = box3DBFGSCentralClampBetween(h, 64*box3DBFGSCentralUnitRoundoff*s, bar) / s
+		diffs.curvature[i] = third
+	}
+	return 4 * len(probe), true
+}
+
+// box3DBFGSCentralAbs returns |v|.
+func box3DBFGSCentralAbs(v float64) float64 {
+	if v < 0 {
+		return -v
+	}
+	return v
+}
+
+// box3DBFGSCentralSquareRoot returns √v.
+func box3DBFGSCentralSquareRoot(v float64) float64 {
+	return math.Sqrt(v)
 }
 
 // box3DBFGSCentralLarger returns the larger of a and b, or a NaN among them. The builtin
@@ -303,12 +466,81 @@ func box3DBFGSCentralLarger(a, b float64) float64 {
 	return b
 }
 
-// box3DBFGSCentralAbs returns |v|.
-func box3DBFGSCentralAbs(v float64) float64 {
-	if v < 0 {
-		return -v
+// box3DBFGSCentralProbeStep returns x_i moved by h, and the step actually representable.
+func box3DBFGSCentralProbeStep(xi, h float64) (float64, float64) {
+	moved := xi + h
+	return moved, moved - xi
+}
+
+// box3DBFGSCentralMagnitude is |v| for a finite v and 0 otherwise: a probe that fell
+// outside the objective's domain says nothing about its rounding.
+func box3DBFGSCentralMagnitude(v float64) float64 {
+	if !box3DBFGSCentralFinite(v) {
+		return 0
+	}
+	return box3DBFGSCentralAbs(v)
+}
+
+// box3DBFGSCentralNoiseLevel is the absolute error assumed in a computed value fx of the
+// objective at x, where its gradient is about g:
+//
+//	ε_A = 4u·(|fx| + Σᵢ |gᵢ·xᵢ|),
+//
+// a few roundings of the result plus the change that rounding each xᵢ by
+// a relative u makes in f, which is what an objective computed with
+// cancellation inside (y − x² in Rosenbrock's valley) shows near a zero
+// minimum, where u·|f| alone vanishes (the first-order error of
+// evaluating f at a rounded x; the factor 4 is common practice; Gill,
+// Murray, Saunders & Wright 1983 leave ε_A to the user).
+func box3DBFGSCentralNoiseLevel(x *[3]float64, fx float64, g *[3]float64) float64 {
+	sum := box3DBFGSCentralAbs(fx)
+	for i := range x {
+		sum += box3DBFGSCentralAbs(g[i] * x[i])
+	}
+	return 4 * box3DBFGSCentralUnitRoundoff * sum
+}
+
+// box3DBFGSCentralCubeRoot returns ∛v for v ≥ 0.
+func box3DBFGSCentralCubeRoot(v float64) float64 {
+	return math.Cbrt(v)
+}
+
+// box3DBFGSCentralClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func box3DBFGSCentralClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
 	}
 	return v
+}
+
+// box3DBFGSCentralDerivative approximates the gradient by central differences,
+//
+//	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),
+//
+// with the intervals box3DBFGSCentralCalibrate chose, h_i = ratio_i·max(1, |x_i|)
+// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls; fx is
+// not needed.
+func box3DBFGSCentralDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *box3DBFGSCentralDifferences) {
+	probe := *x
+	for i := range probe {
+		xi := probe[i]
+		h := diffs.ratio[i] * box3DBFGSCentralLarger(1, box3DBFGSCentralAbs(xi))
+		up, _ := box3DBFGSCentralProbeStep(xi, h)
+		down, _ := box3DBFGSCentralProbeStep(xi, -h)
+		probe[i] = up
+		fUp := Box3D(&probe)
+		probe[i] = down
+		fDown := Box3D(&probe)
+		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+		probe[i] = xi
+	}
 }
 
 // box3DBFGSCentralDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
@@ -401,15 +633,67 @@ func box3DBFGSCentralCurvatureSafe(s, y *[3]float64) bool {
 	return sy > 0 && (sy/box3DBFGSCentralDot(s, s))*(sy/box3DBFGSCentralDot(y, y)) > box3DBFGSCentralUnitRoundoff
 }
 
-// box3DBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
-func box3DBFGSCentralMaxAbs(x *[3]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := box3DBFGSCentralAbs(x[i]); a > m || a != a {
-			m = a
-		}
+// box3DBFGSCentralGradientError bounds each central difference's error by twice its
+// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
+// in forwardError).
+func box3DBFGSCentralGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *box3DBFGSCentralDifferences) {
+	noise := box3DBFGSCentralNoiseLevel(x, fx, g)
+	for i := range e {
+		h := diffs.ratio[i] * box3DBFGSCentralLarger(1, box3DBFGSCentralAbs(x[i]))
+		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
 	}
-	return m
+}
+
+// box3DBFGSCentralGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func box3DBFGSCentralGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
+	scale := box3DBFGSCentralLarger(box3DBFGSCentralAbs(fx), 1)
+	for i := range g {
+		w := box3DBFGSCentralLarger(box3DBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = box3DBFGSCentralLarger(measure, (box3DBFGSCentralAbs(g[i])+e[i])*w)
+		floor = box3DBFGSCentralLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// box3DBFGSCentralConfirmGradient recomputes a difference gradient at x before the run is
+// called converged there: it chooses the intervals again from the
+// curvature at x (calibrate), computes g with them and with twice them,
+// and bounds each component's error by the model (box3DBFGSCentralGradientError) plus
+// three times the change the doubling made. That change measures what the
+// model can miss, truncation from curvature that varies and rounding
+// noise above 4u·|f|; as one sample of that noise it is tripled
+// (Richardson's idea of comparing two intervals; the factor is common
+// practice for a posteriori error estimates). It costs a calibration and two
+// gradients, and returns the calls spent and false when budget ran out
+// first.
+func box3DBFGSCentralConfirmGradient(x *[3]float64, fx float64, g, e *[3]float64, diffs *box3DBFGSCentralDifferences, budget int) (int, bool) {
+	calls, ok := box3DBFGSCentralCalibrate(x, fx, diffs, budget)
+	if !ok || calls+2*box3DBFGSCentralDerivativeCost > budget {
+		return calls, false
+	}
+	wide := *diffs
+	for i := range wide.ratio {
+		wide.ratio[i] *= 2
+	}
+	var doubled [3]float64
+	box3DBFGSCentralDerivative(x, fx, g, diffs)
+	box3DBFGSCentralDerivative(x, fx, &doubled, &wide)
+	box3DBFGSCentralGradientError(x, fx, g, e, diffs)
+	for i := range e {
+		e[i] += 3 * box3DBFGSCentralAbs(g[i]-doubled[i])
+	}
+	return calls + 2*box3DBFGSCentralDerivativeCost, true
 }
 
 // box3DBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
@@ -422,6 +706,43 @@ func box3DBFGSCentralStepWithin(s, x *[3]float64, tol float64) bool {
 		}
 	}
 	return true
+}
+
+// box3DBFGSCentralSettle prepares the final verdict at a stall: with differences it
+// confirms the gradient (box3DBFGSCentralConfirmGradient), then it adds to each error
+// bound the rounding floor of x (box3DBFGSCentralRoundingFloor). It returns the objective
+// calls spent and false when budget ran out first.
+func box3DBFGSCentralSettle(x *[3]float64, fx float64, g, e *[3]float64, diffs *box3DBFGSCentralDifferences, budget int) (int, bool) {
+	calls := 0
+	if box3DBFGSCentralDerivativeCost > 0 {
+		spent, ok := box3DBFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
+	}
+	box3DBFGSCentralRoundingFloor(x, g, e, diffs)
+	return calls, true
+}
+
+// box3DBFGSCentralRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
+// that moving xᵢ by a few of its rounding units makes in gᵢ:
+// where no step the step test resolves decreases f, a gradient that small
+// is zero to the rounding of x (the resolution of x in floating point,
+// common practice). It is added only at a stall, so a gradient far above
+// it still ends the run as stalled.
+func box3DBFGSCentralRoundingFloor(x, g, e *[3]float64, diffs *box3DBFGSCentralDifferences) {
+	var h [3]float64
+	box3DBFGSCentralDiagonalCurvature(x, g, diffs, &h)
+	for i := range e {
+		e[i] += 4 * box3DBFGSCentralUnitRoundoff * box3DBFGSCentralAbs(x[i]) * h[i]
+	}
+}
+
+// box3DBFGSCentralDiagonalCurvature takes each |f″| along eᵢ from the differences' last
+// calibration, which box3DBFGSCentralConfirmGradient has just made at x.
+func box3DBFGSCentralDiagonalCurvature(x, g *[3]float64, diffs *box3DBFGSCentralDifferences, h *[3]float64) {
+	*h = diffs.second
 }
 
 // box3DBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
@@ -460,7 +781,7 @@ func box3DBFGSCentralTinyStep(x, d *[3]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func box3DBFGSCentralLineSearch(x *[3]float64, fx float64, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64) box3DBFGSCentralLineResult {
+func box3DBFGSCentralLineSearch(x *[3]float64, fx float64, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *box3DBFGSCentralDifferences) box3DBFGSCentralLineResult {
 	low := box3DBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high box3DBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                                // ∇f at low, kept for accepting low from a collapsed bracket
@@ -492,7 +813,7 @@ func box3DBFGSCentralLineSearch(x *[3]float64, fx float64, d *[3]float64, slope,
 			if calls+box3DBFGSCentralDerivativeCost > budget {
 				return box3DBFGSCentralLineResult{calls: calls, end: box3DBFGSCentralSearchOutOfBudget}
 			}
-			box3DBFGSCentralDerivative(xt, current.value, gt)
+			box3DBFGSCentralDerivative(xt, current.value, gt, diffs)
 			calls += box3DBFGSCentralDerivativeCost
 			current.slope, current.hasSlope = box3DBFGSCentralDot(gt, d), true
 			switch {
@@ -517,7 +838,7 @@ func box3DBFGSCentralLineSearch(x *[3]float64, fx float64, d *[3]float64, slope,
 	if low.step > 0 {
 		return box3DBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
 	}
-	return box3DBFGSCentralLineResult{calls: calls, end: box3DBFGSCentralSearchExhausted}
+	return box3DBFGSCentralLineResult{calls: calls, rising: trend.contradicts(), end: box3DBFGSCentralSearchExhausted}
 }
 
 // box3DBFGSCentralLineResult is what a line search reports to the kernel.
@@ -618,6 +939,7 @@ const (
 	box3DBFGSCentralSearchExhausted                                    // box3DBFGSCentralStepTrials trials met none
 	box3DBFGSCentralSearchOutOfBudget                                  // the evaluation cap came first
 	box3DBFGSCentralSearchTiny                                         // every step longer than tiny failed to decrease f
+	box3DBFGSCentralSearchDiverged                                     // a fixed step's value overflowed
 )
 
 // box3DBFGSCentralAcceptLow ends a Wolfe search with its best trial, which met sufficient
@@ -683,26 +1005,6 @@ func box3DBFGSCentralModelMinimizer(a, b *box3DBFGSCentralLinePoint) (t float64,
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, box3DBFGSCentralFinite(t)
-}
-
-// box3DBFGSCentralSquareRoot returns √v.
-func box3DBFGSCentralSquareRoot(v float64) float64 {
-	return math.Sqrt(v)
-}
-
-// box3DBFGSCentralClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func box3DBFGSCentralClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // box3DBFGSCentralExpandTrial picks a larger trial after current met sufficient decrease

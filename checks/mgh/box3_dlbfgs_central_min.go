@@ -8,10 +8,10 @@ import "math"
 type Box3DLBFGSCentralStatus uint8
 
 const (
-	// Box3DLBFGSCentralGradientSmall: the largest gradient component fell to the gradient limit: converged.
+	// Box3DLBFGSCentralGradientSmall: the gradient test holds at X: its measure, with the differences' error bound when they are used, is at most the gradient limit: converged.
 	Box3DLBFGSCentralGradientSmall Box3DLBFGSCentralStatus = iota + 1
-	// Box3DLBFGSCentralStepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f: converged.
-	Box3DLBFGSCentralStepTiny
+	// Box3DLBFGSCentralStalled: the step test ended the run, or no step longer than the step limit decreased f, while the gradient test still fails: X is as far as the run could get, not a verified minimizer.
+	Box3DLBFGSCentralStalled
 	// Box3DLBFGSCentralOutOfIterations: the iteration limit came first.
 	Box3DLBFGSCentralOutOfIterations
 	// Box3DLBFGSCentralOutOfEvaluations: the next objective call would have exceeded the evaluation cap.
@@ -22,8 +22,10 @@ const (
 	Box3DLBFGSCentralNonFiniteStart
 	// Box3DLBFGSCentralNonFiniteGradient: a gradient component became NaN or ±Inf.
 	Box3DLBFGSCentralNonFiniteGradient
-	// Box3DLBFGSCentralNoDecrease: no step longer than the step limit decreased f, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test).
+	// Box3DLBFGSCentralNoDecrease: the line search found no acceptable step, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test).
 	Box3DLBFGSCentralNoDecrease
+	// Box3DLBFGSCentralDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
+	Box3DLBFGSCentralDiverged
 )
 
 // String describes the status in a few words.
@@ -31,8 +33,8 @@ func (s Box3DLBFGSCentralStatus) String() string {
 	switch s {
 	case Box3DLBFGSCentralGradientSmall:
 		return "gradient small"
-	case Box3DLBFGSCentralStepTiny:
-		return "step tiny"
+	case Box3DLBFGSCentralStalled:
+		return "stalled"
 	case Box3DLBFGSCentralOutOfIterations:
 		return "out of iterations"
 	case Box3DLBFGSCentralOutOfEvaluations:
@@ -45,28 +47,32 @@ func (s Box3DLBFGSCentralStatus) String() string {
 		return "non-finite gradient"
 	case Box3DLBFGSCentralNoDecrease:
 		return "no decrease"
+	case Box3DLBFGSCentralDiverged:
+		return "diverged"
 	default:
 		return "unknown status"
 	}
 }
 
-// Converged reports whether a convergence test, on the gradient or on the step, ended the run; limits, line-search failure and non-finite values are not convergence.
+// Converged reports whether the gradient test holds at X (Gradient ≤ GradientLimit in the result): only then is X a verified stationary point; a stall, the limits, line-search failure and non-finite values are not convergence.
 func (s Box3DLBFGSCentralStatus) Converged() bool {
-	return s == Box3DLBFGSCentralGradientSmall || s == Box3DLBFGSCentralStepTiny
+	return s == Box3DLBFGSCentralGradientSmall
 }
 
 // Box3DLBFGSCentralResult is where Box3DLBFGSCentral stopped and why.
 type Box3DLBFGSCentralResult struct {
-	X           [3]float64              // the last accepted point, the best one found
-	F           float64                 // the objective at X
-	Iterations  int                     // accepted steps
-	Evaluations int                     // objective calls, finite differences included
-	Status      Box3DLBFGSCentralStatus // why the run stopped; check Status.Converged()
+	X             [3]float64              // where the gradient test held, when converged; else the lowest point seen
+	F             float64                 // the objective at X
+	Gradient      float64                 // the gradient test's measure at X, the differences' error bound included; NaN when the run ended before the gradient at X was known
+	GradientLimit float64                 // the limit Gradient was held to: Limits.Gradient, raised with differences to ten times the measure of their error bound; converged runs have Gradient ≤ GradientLimit
+	Iterations    int                     // accepted steps
+	Evaluations   int                     // objective calls, finite differences included
+	Status        Box3DLBFGSCentralStatus // why the run stopped; check Status.Converged()
 }
 
 // Box3DLBFGSCentralLimits are the stop limits of one run. Pass them to Box3DLBFGSCentralWithLimits to change them at run time; Box3DLBFGSCentralDefaultLimits returns the spec's.
 type Box3DLBFGSCentralLimits struct {
-	Gradient    float64 // stop when the largest |∂f/∂xᵢ| is at most this
+	Gradient    float64 // stop, converged, when the gradient test's measure is at most this (with differences, at most ten times the measure of their error bound where that is larger)
 	Step        float64 // stop when every |Δxᵢ| is at most this·(|xᵢ| + 1)
 	Iterations  int     // most accepted steps
 	Evaluations int     // hard cap on objective calls, finite differences included; never exceeded
@@ -86,11 +92,12 @@ func Box3DLBFGSCentralDefaultLimits() Box3DLBFGSCentralLimits {
 //
 // Direction lbfgs: limited-memory BFGS: the last `memory` pairs, two-loop recursion (2·memory·dim numbers).
 // Step rule wolfe: bracket and zoom until sufficient decrease and the curvature condition hold.
-// Derivative central: central differences: 2·dim objective calls per gradient, error O(u^(2/3)).
+// Derivative central: central differences: 2·dim objective calls per gradient, intervals from the objective's curvature, error O(u^(2/3)).
+// Gradient test relative: max over i of (|∂f/∂xᵢ| + eᵢ)·max(|xᵢ|, 1)/max(|f(x)|, 1), eᵢ the error bound of differences (0 for an analytic gradient).
 // Constants: initial 1.0, c1 0.0001, c2 0.9, at most 48 trials per line search, memory 5 pairs.
-// Default stop: largest gradient component ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
+// Default stop: gradient measure ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
 //
-// Worst case: 200000 objective calls, 6 of them per gradient (the evaluation cap; the iteration limit alone would allow 1680007). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
+// Worst case: 200000 objective calls, 6 of them per gradient and 12 per choice of the difference intervals (at the start and before each convergence is confirmed) (the evaluation cap; the iteration limit alone would allow 1800379). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
 func Box3DLBFGSCentral(x0 [3]float64) Box3DLBFGSCentralResult {
 	return Box3DLBFGSCentralWithLimits(x0, Box3DLBFGSCentralDefaultLimits())
@@ -100,11 +107,13 @@ func Box3DLBFGSCentral(x0 [3]float64) Box3DLBFGSCentralResult {
 func Box3DLBFGSCentralWithLimits(x0 [3]float64, limits Box3DLBFGSCentralLimits) Box3DLBFGSCentralResult {
 	out := box3DLBFGSCentralMinimize(x0, limits)
 	return Box3DLBFGSCentralResult{
-		Evaluations: out.evaluations,
-		F:           out.f,
-		Iterations:  out.iterations,
-		Status:      out.status,
-		X:           out.x,
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
 	}
 }
 
@@ -118,27 +127,40 @@ const (
 	box3DLBFGSCentralDerivativeCost = 6                      // objective calls per gradient
 	box3DLBFGSCentralUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
 	box3DLBFGSCentralLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
-	box3DLBFGSCentralCentralScale   = 4.806217383937352e-06  // ∛u, central-difference step scale (Nocedal & Wright 2006, §8.1)
 )
 
 // box3DLBFGSCentralMinimize runs the descent loop from x0 within lim:
 //
-//  1. stop when the largest gradient component is at most lim.Gradient;
+//  1. stop, converged, when the gradient measure (box3DLBFGSCentralGradientMeasure, error
+//     bound of differences included) is at most the limit: lim.Gradient,
+//     or three times the measure of the differences' error bound when that is
+//     larger, so that the limit can be met (the floor the test can see);
+//     differences confirm it first (box3DLBFGSCentralConfirmGradient);
 //  2. stop after lim.Iterations accepted steps;
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
-//  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged,
-//     unless f contradicts an analytic gradient: no decrease);
+//  4. search along d; stop when no trial is acceptable or only steps
+//     shorter than the step limit are left to try: stalled, or no
+//     decrease when f contradicts an analytic gradient (see box3DLBFGSCentralRiseTrend);
 //  5. move, refresh the gradient, let the direction learn from the step;
-//  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
+//  6. stop, stalled, when every |Δx_i| is at most lim.Step·(|x_i| + 1) while
+//     the gradient test still fails. At a stall the run settles first
+//     (settle): the error bound gains the rounding floor of x, with
+//     differences confirmed, and the limit rises to ten times the larger
+//     of lim.Gradient and the bound's measure; a gradient within that is
+//     as small as this point can show, and the run is converged with that
+//     limit, which it reports.
 //
-// Before every objective call it checks that lim.Evaluations leaves room
-// for it, so the cap is never exceeded. A NaN or ±Inf at the start or in a
+// Only step 1 is convergence: the first-order test holds at X. Before
+// every objective call it checks that lim.Evaluations leaves room for it,
+// so the cap is never exceeded. A NaN or ±Inf at the start or in a
 // gradient ends the run with its own status; a non-finite trial value is
-// rejected by the line search like any failed trial.
+// rejected by the line search like any failed trial. X is the best point
+// seen unless the run converged, which it did at X. A fixed step whose
+// value overflows, or that raised f above f(x0) at eight steps in a row,
+// ends the run as diverged (common practice for a divergence test).
 func box3DLBFGSCentralMinimize(x0 [3]float64, lim Box3DLBFGSCentralLimits) box3DLBFGSCentralOutcome {
-	out := box3DLBFGSCentralOutcome{x: x0, status: Box3DLBFGSCentralOutOfEvaluations}
+	out := box3DLBFGSCentralOutcome{x: x0, status: Box3DLBFGSCentralOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
@@ -149,11 +171,14 @@ func box3DLBFGSCentralMinimize(x0 [3]float64, lim Box3DLBFGSCentralLimits) box3D
 		out.status = Box3DLBFGSCentralNonFiniteStart
 		return out
 	}
-	if out.evaluations+box3DLBFGSCentralDerivativeCost > lim.Evaluations {
+	var diffs box3DLBFGSCentralDifferences
+	calls, ok := box3DLBFGSCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
+	out.evaluations += calls
+	if !ok || out.evaluations+box3DLBFGSCentralDerivativeCost > lim.Evaluations {
 		return out
 	}
-	var g [3]float64
-	box3DLBFGSCentralDerivative(&x, fx, &g)
+	var g, e [3]float64
+	box3DLBFGSCentralDerivative(&x, fx, &g, &diffs)
 	out.evaluations += box3DLBFGSCentralDerivativeCost
 
 	if !box3DLBFGSCentralFiniteVec(&g) {
@@ -164,21 +189,76 @@ func box3DLBFGSCentralMinimize(x0 [3]float64, lim Box3DLBFGSCentralLimits) box3D
 	dir.reset()
 	var d, xt, gt, s, y [3]float64
 	t, slope := float64(box3DLBFGSCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
+	best := out                                                   // the lowest point seen, for runs that end unconverged
+	start, rises := fx, 0                                         // f(x0), and consecutive accepted steps that raised f above it
+	confirmed := false                                            // whether g and e at x come from box3DLBFGSCentralConfirmGradient
+	stalled := false                                              // whether the run can make no more progress at x
+	retried := -1                                                 // the iteration whose stall was retried with recalibrated differences
 	for {
-		if box3DLBFGSCentralMaxAbs(&g) <= lim.Gradient {
+		if !confirmed {
+			box3DLBFGSCentralGradientError(&x, fx, &g, &e, &diffs)
+		}
+		measure, floor := box3DLBFGSCentralGradientMeasure(&g, &e, &x, fx)
+		out.gradient, out.gradientLimit = measure, box3DLBFGSCentralLarger(lim.Gradient, 3*floor)
+		if stalled {
+			// No step can make progress here: the gradient is as small as
+			// this point shows it, within ten times the limit or the floor.
+			out.gradientLimit = 10 * box3DLBFGSCentralLarger(lim.Gradient, floor)
+		}
+		if out.f <= best.f {
+			best = out
+		}
+		if measure <= out.gradientLimit && (box3DLBFGSCentralDerivativeCost == 0 || confirmed) {
 			out.status = Box3DLBFGSCentralGradientSmall
 			return out
 		}
-		if out.iterations > 0 {
+		if measure <= out.gradientLimit {
+			// Differences pass the test: confirm it with intervals chosen
+			// here and an error measured rather than modelled.
+			calls, ok := box3DLBFGSCentralConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(Box3DLBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !box3DLBFGSCentralFiniteVec(&g) {
+				return best.ending(Box3DLBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			confirmed = true
+			continue
+		}
+		if stalled {
+			// Settled and still above the limit: stalled, unless
+			// differences, whose intervals were just chosen here, can
+			// search once more with the better gradient.
+			if box3DLBFGSCentralDerivativeCost == 0 {
+				return best.ending(Box3DLBFGSCentralStalled, out.iterations, out.evaluations)
+			}
+			stalled, retried = false, out.iterations
+		}
+		// At a stall, settle first: the run is converged if the gradient
+		// is zero to the rounding of x (and, with differences, to their
+		// accuracy, confirmed); see settle.
+		canSettle := retried != out.iterations
+		if out.iterations > 0 && canSettle {
 			if box3DLBFGSCentralStepWithin(&s, &x, lim.Step) {
-				out.status = Box3DLBFGSCentralStepTiny
-				return out
+				calls, ok := box3DLBFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+				out.evaluations += calls
+				if !ok {
+					return best.ending(Box3DLBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+				}
+				if !box3DLBFGSCentralFiniteVec(&g) {
+					return best.ending(Box3DLBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
+				}
+				stalled, confirmed = true, true
+				continue
+			}
+			if rises >= 8 {
+				return best.ending(Box3DLBFGSCentralDiverged, out.iterations, out.evaluations)
 			}
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
-			out.status = Box3DLBFGSCentralOutOfIterations
-			return out
+			return best.ending(Box3DLBFGSCentralOutOfIterations, out.iterations, out.evaluations)
 		}
 		dir.compute(&g, &d)
 		now := box3DLBFGSCentralDot(&g, &d)
@@ -192,50 +272,70 @@ func box3DLBFGSCentralMinimize(x0 [3]float64, lim Box3DLBFGSCentralLimits) box3D
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := box3DLBFGSCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := box3DLBFGSCentralLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt)
+		found := box3DLBFGSCentralLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case box3DLBFGSCentralSearchOutOfBudget:
-			return out
-		case box3DLBFGSCentralSearchExhausted:
-			out.status = Box3DLBFGSCentralNoAcceptableStep
-			return out
-		case box3DLBFGSCentralSearchTiny:
-			// Converged to the step limit: no step the step test would
-			// reject decreases f. Not so when an analytic gradient is
-			// contradicted by f rising in proportion to the step (see
-			// box3DLBFGSCentralRiseTrend, which never reports that for differences).
-			out.status = Box3DLBFGSCentralStepTiny
-			if found.rising {
-				out.status = Box3DLBFGSCentralNoDecrease
+			return best.ending(Box3DLBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+		case box3DLBFGSCentralSearchDiverged:
+			return best.ending(Box3DLBFGSCentralDiverged, out.iterations, out.evaluations)
+		case box3DLBFGSCentralSearchExhausted, box3DLBFGSCentralSearchTiny:
+			// No acceptable step. When an analytic gradient predicted a
+			// fall that f contradicted in proportion to the step, the
+			// gradient is probably wrong (see box3DLBFGSCentralRiseTrend, which never
+			// reports that for differences); otherwise the search stalled
+			// below the step limit, or ran out of trials.
+			end := Box3DLBFGSCentralNoAcceptableStep
+			switch {
+			case found.rising:
+				end = Box3DLBFGSCentralNoDecrease
+			case found.end == box3DLBFGSCentralSearchTiny && canSettle:
+				calls, ok := box3DLBFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+				out.evaluations += calls
+				if !ok {
+					return best.ending(Box3DLBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+				}
+				if !box3DLBFGSCentralFiniteVec(&g) {
+					return best.ending(Box3DLBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
+				}
+				stalled, confirmed = true, true
+				continue
+			case found.end == box3DLBFGSCentralSearchTiny:
+				end = Box3DLBFGSCentralStalled
 			}
-			return out
+			return best.ending(end, out.iterations, out.evaluations)
 		}
 		if !box3DLBFGSCentralFiniteVec(&xt) {
-			out.status = Box3DLBFGSCentralNoAcceptableStep // the accepted trial overflowed x
-			return out
+			return best.ending(Box3DLBFGSCentralNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
 		}
 		if !found.gradient {
 			if out.evaluations+box3DLBFGSCentralDerivativeCost > lim.Evaluations {
-				if found.value < fx { // keep a better point even without its gradient
-					out.x, out.f = xt, found.value
+				if found.value < best.f { // keep a better point even without its gradient
+					best.x, best.f, best.gradient = xt, found.value, math.NaN()
 					out.iterations++
 				}
-				return out
+				return best.ending(Box3DLBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			box3DLBFGSCentralDerivative(&xt, found.value, &gt)
+			box3DLBFGSCentralDerivative(&xt, found.value, &gt, &diffs)
 			out.evaluations += box3DLBFGSCentralDerivativeCost
 		}
 		out.iterations++
 		box3DLBFGSCentralDifference(&s, &xt, &x)
 		box3DLBFGSCentralDifference(&y, &gt, &g)
-		x, fx, g = xt, found.value, gt
-		out.x, out.f = x, fx
+		if found.value > fx && found.value > start {
+			rises++
+		} else {
+			rises = 0
+		}
+		x, fx, g, confirmed = xt, found.value, gt, false
+		out.x, out.f, out.gradient = x, fx, math.NaN()
 		t, slope = found.step, now
 
 		if !box3DLBFGSCentralFiniteVec(&g) {
-			out.status = Box3DLBFGSCentralNonFiniteGradient
-			return out
+			if out.f < best.f {
+				best = out
+			}
+			return best.ending(Box3DLBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
 		}
 	}
 }
@@ -243,11 +343,19 @@ func box3DLBFGSCentralMinimize(x0 [3]float64, lim Box3DLBFGSCentralLimits) box3D
 // box3DLBFGSCentralOutcome is the kernel's report; the generated entry point copies it into
 // the spec's result type.
 type box3DLBFGSCentralOutcome struct {
-	x           [3]float64
-	f           float64
-	iterations  int
-	evaluations int
-	status      Box3DLBFGSCentralStatus
+	x             [3]float64
+	f             float64
+	gradient      float64 // the stop test's measure at x, error bound included; NaN when not known
+	gradientLimit float64 // the limit that measure was held to
+	iterations    int
+	evaluations   int
+	status        Box3DLBFGSCentralStatus
+}
+
+// ending is the best point seen, reported with the run's end and counts.
+func (o box3DLBFGSCentralOutcome) ending(end Box3DLBFGSCentralStatus, iterations, evaluations int) box3DLBFGSCentralOutcome {
+	o.status, o.iterations, o.evaluations = end, iterations, evaluations
+	return o
 }
 
 // box3DLBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
@@ -272,26 +380,81 @@ func box3DLBFGSCentralFiniteVec(x *[3]float64) bool {
 	return true
 }
 
-// box3DLBFGSCentralDerivative approximates the gradient by central differences,
+// box3DLBFGSCentralDifferences is what the difference gradients learn from the objective
+// at the start: for each coordinate i, the interval as a multiple of
+// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
+// forward differences, |f‴| for central ones). The analytic gradient
+// leaves it unused.
+type box3DLBFGSCentralDifferences struct {
+	ratio     [3]float64
+	curvature [3]float64
+	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see box3DLBFGSCentralRoundingFloor)
+}
+
+// box3DLBFGSCentralCalibrate chooses each central-difference interval from the
+// third derivative along e_i, estimated at x with four probes at ±h̄ and
+// ±2h̄, h̄ = u^(1/4)·s, s = max(1, |x_i|):
 //
-//	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),  h_i = ∛u · max(1, |x_i|),
+//	f‴ ≈ (f(x + 2h̄eᵢ) − 2f(x + h̄eᵢ) + 2f(x − h̄eᵢ) − f(x − 2h̄eᵢ)) / (2h̄³),
+//	h_i  = ∛(3ε_A / |f‴|)
 //
-// with error O(h²) (Nocedal & Wright 2006, eq. 8.7 and §8.1). It costs
-// 2·dim objective calls; fx is not needed.
-func box3DLBFGSCentralDerivative(x *[3]float64, fx float64, g *[3]float64) {
+// the interval that minimizes the truncation error h²|f‴|/6 plus the
+// rounding error ε_A/h of a central difference (Nocedal & Wright 2006,
+// §8.1, with the third-derivative estimate of the forward interval's
+// procedure of Gill, Murray, Saunders & Wright 1983 carried one order
+// up), with ε_A from box3DLBFGSCentralNoiseLevel and the probes' slopes. An estimate below
+// its rounding noise 3ε_A/h̄³ is replaced by that noise, and h_i is kept
+// within [64u·s, h̄]. It costs four objective calls per unknown.
+func box3DLBFGSCentralCalibrate(x *[3]float64, fx float64, diffs *box3DLBFGSCentralDifferences, budget int) (int, bool) {
 	probe := *x
+	var slope [3]float64
+	scale := box3DLBFGSCentralAbs(fx)
+	quarter := box3DLBFGSCentralSquareRoot(box3DLBFGSCentralSquareRoot(box3DLBFGSCentralUnitRoundoff)) // u^(1/4)
 	for i := range probe {
+		if 4*(i+1) > budget {
+			return 4 * i, false
+		}
 		xi := probe[i]
-		h := box3DLBFGSCentralCentralScale * box3DLBFGSCentralLarger(1, box3DLBFGSCentralAbs(xi)) // N&W §8.1: h = ∛u·max(1,|x_i|)
-		up := xi + h
-		down := xi - h
-		probe[i] = up
-		fUp := Box3D(&probe)
-		probe[i] = down
-		fDown := Box3D(&probe)
-		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+		bar := quarter * box3DLBFGSCentralLarger(1, box3DLBFGSCentralAbs(xi))
+		var f [4]float64
+		for k, m := range [4]float64{2, 1, -1, -2} {
+			probe[i], _ = box3DLBFGSCentralProbeStep(xi, m*bar)
+			f[k] = Box3D(&probe)
+			scale = box3DLBFGSCentralLarger(scale, box3DLBFGSCentralMagnitude(f[k]))
+		}
 		probe[i] = xi
+		if box3DLBFGSCentralFinite(f[0]) && box3DLBFGSCentralFinite(f[1]) && box3DLBFGSCentralFinite(f[2]) && box3DLBFGSCentralFinite(f[3]) {
+			diffs.curvature[i] = box3DLBFGSCentralAbs(f[0]-2*f[1]+2*f[2]-f[3]) / (2 * bar * bar * bar)
+			diffs.second[i] = box3DLBFGSCentralAbs(f[1]-2*fx+f[2]) / (bar * bar)
+			slope[i] = (f[1] - f[2]) / (2 * bar)
+		}
 	}
+	noise := box3DLBFGSCentralNoiseLevel(x, scale, &slope)
+	for i := range probe {
+		s := box3DLBFGSCentralLarger(1, box3DLBFGSCentralAbs(probe[i]))
+		bar := quarter * s
+		third := box3DLBFGSCentralLarger(diffs.curvature[i], 3*noise/(bar*bar*bar))
+		h := bar
+		if third > 0 {
+			h = box3DLBFGSCentralCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+		}
+		diffs.ratio[i] = box3DLBFGSCentralClampBetween(h, 64*box3DLBFGSCentralUnitRoundoff*s, bar) / s
+		diffs.curvature[i] = third
+	}
+	return 4 * len(probe), true
+}
+
+// box3DLBFGSCentralAbs returns |v|.
+func box3DLBFGSCentralAbs(v float64) float64 {
+	if v < 0 {
+		return -v
+	}
+	return v
+}
+
+// box3DLBFGSCentralSquareRoot returns √v.
+func box3DLBFGSCentralSquareRoot(v float64) float64 {
+	return math.Sqrt(v)
 }
 
 // box3DLBFGSCentralLarger returns the larger of a and b, or a NaN among them. The builtin
@@ -304,12 +467,81 @@ func box3DLBFGSCentralLarger(a, b float64) float64 {
 	return b
 }
 
-// box3DLBFGSCentralAbs returns |v|.
-func box3DLBFGSCentralAbs(v float64) float64 {
-	if v < 0 {
-		return -v
+// box3DLBFGSCentralProbeStep returns x_i moved by h, and the step actually representable.
+func box3DLBFGSCentralProbeStep(xi, h float64) (float64, float64) {
+	moved := xi + h
+	return moved, moved - xi
+}
+
+// box3DLBFGSCentralMagnitude is |v| for a finite v and 0 otherwise: a probe that fell
+// outside the objective's domain says nothing about its rounding.
+func box3DLBFGSCentralMagnitude(v float64) float64 {
+	if !box3DLBFGSCentralFinite(v) {
+		return 0
+	}
+	return box3DLBFGSCentralAbs(v)
+}
+
+// box3DLBFGSCentralNoiseLevel is the absolute error assumed in a computed value fx of the
+// objective at x, where its gradient is about g:
+//
+//	ε_A = 4u·(|fx| + Σᵢ |gᵢ·xᵢ|),
+//
+// a few roundings of the result plus the change that rounding each xᵢ by
+// a relative u makes in f, which is what an objective computed with
+// cancellation inside (y − x² in Rosenbrock's valley) shows near a zero
+// minimum, where u·|f| alone vanishes (the first-order error of
+// evaluating f at a rounded x; the factor 4 is common practice; Gill,
+// Murray, Saunders & Wright 1983 leave ε_A to the user).
+func box3DLBFGSCentralNoiseLevel(x *[3]float64, fx float64, g *[3]float64) float64 {
+	sum := box3DLBFGSCentralAbs(fx)
+	for i := range x {
+		sum += box3DLBFGSCentralAbs(g[i] * x[i])
+	}
+	return 4 * box3DLBFGSCentralUnitRoundoff * sum
+}
+
+// box3DLBFGSCentralCubeRoot returns ∛v for v ≥ 0.
+func box3DLBFGSCentralCubeRoot(v float64) float64 {
+	return math.Cbrt(v)
+}
+
+// box3DLBFGSCentralClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func box3DLBFGSCentralClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
 	}
 	return v
+}
+
+// box3DLBFGSCentralDerivative approximates the gradient by central differences,
+//
+//	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),
+//
+// with the intervals box3DLBFGSCentralCalibrate chose, h_i = ratio_i·max(1, |x_i|)
+// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls; fx is
+// not needed.
+func box3DLBFGSCentralDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *box3DLBFGSCentralDifferences) {
+	probe := *x
+	for i := range probe {
+		xi := probe[i]
+		h := diffs.ratio[i] * box3DLBFGSCentralLarger(1, box3DLBFGSCentralAbs(xi))
+		up, _ := box3DLBFGSCentralProbeStep(xi, h)
+		down, _ := box3DLBFGSCentralProbeStep(xi, -h)
+		probe[i] = up
+		fUp := Box3D(&probe)
+		probe[i] = down
+		fDown := Box3D(&probe)
+		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+		probe[i] = xi
+	}
 }
 
 // box3DLBFGSCentralDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
@@ -427,15 +659,67 @@ func box3DLBFGSCentralCurvatureSafe(s, y *[3]float64) bool {
 	return sy > 0 && (sy/box3DLBFGSCentralDot(s, s))*(sy/box3DLBFGSCentralDot(y, y)) > box3DLBFGSCentralUnitRoundoff
 }
 
-// box3DLBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
-func box3DLBFGSCentralMaxAbs(x *[3]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := box3DLBFGSCentralAbs(x[i]); a > m || a != a {
-			m = a
-		}
+// box3DLBFGSCentralGradientError bounds each central difference's error by twice its
+// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
+// in forwardError).
+func box3DLBFGSCentralGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *box3DLBFGSCentralDifferences) {
+	noise := box3DLBFGSCentralNoiseLevel(x, fx, g)
+	for i := range e {
+		h := diffs.ratio[i] * box3DLBFGSCentralLarger(1, box3DLBFGSCentralAbs(x[i]))
+		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
 	}
-	return m
+}
+
+// box3DLBFGSCentralGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func box3DLBFGSCentralGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
+	scale := box3DLBFGSCentralLarger(box3DLBFGSCentralAbs(fx), 1)
+	for i := range g {
+		w := box3DLBFGSCentralLarger(box3DLBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = box3DLBFGSCentralLarger(measure, (box3DLBFGSCentralAbs(g[i])+e[i])*w)
+		floor = box3DLBFGSCentralLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// box3DLBFGSCentralConfirmGradient recomputes a difference gradient at x before the run is
+// called converged there: it chooses the intervals again from the
+// curvature at x (calibrate), computes g with them and with twice them,
+// and bounds each component's error by the model (box3DLBFGSCentralGradientError) plus
+// three times the change the doubling made. That change measures what the
+// model can miss, truncation from curvature that varies and rounding
+// noise above 4u·|f|; as one sample of that noise it is tripled
+// (Richardson's idea of comparing two intervals; the factor is common
+// practice for a posteriori error estimates). It costs a calibration and two
+// gradients, and returns the calls spent and false when budget ran out
+// first.
+func box3DLBFGSCentralConfirmGradient(x *[3]float64, fx float64, g, e *[3]float64, diffs *box3DLBFGSCentralDifferences, budget int) (int, bool) {
+	calls, ok := box3DLBFGSCentralCalibrate(x, fx, diffs, budget)
+	if !ok || calls+2*box3DLBFGSCentralDerivativeCost > budget {
+		return calls, false
+	}
+	wide := *diffs
+	for i := range wide.ratio {
+		wide.ratio[i] *= 2
+	}
+	var doubled [3]float64
+	box3DLBFGSCentralDerivative(x, fx, g, diffs)
+	box3DLBFGSCentralDerivative(x, fx, &doubled, &wide)
+	box3DLBFGSCentralGradientError(x, fx, g, e, diffs)
+	for i := range e {
+		e[i] += 3 * box3DLBFGSCentralAbs(g[i]-doubled[i])
+	}
+	return calls + 2*box3DLBFGSCentralDerivativeCost, true
 }
 
 // box3DLBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
@@ -448,6 +732,43 @@ func box3DLBFGSCentralStepWithin(s, x *[3]float64, tol float64) bool {
 		}
 	}
 	return true
+}
+
+// box3DLBFGSCentralSettle prepares the final verdict at a stall: with differences it
+// confirms the gradient (box3DLBFGSCentralConfirmGradient), then it adds to each error
+// bound the rounding floor of x (box3DLBFGSCentralRoundingFloor). It returns the objective
+// calls spent and false when budget ran out first.
+func box3DLBFGSCentralSettle(x *[3]float64, fx float64, g, e *[3]float64, diffs *box3DLBFGSCentralDifferences, budget int) (int, bool) {
+	calls := 0
+	if box3DLBFGSCentralDerivativeCost > 0 {
+		spent, ok := box3DLBFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
+	}
+	box3DLBFGSCentralRoundingFloor(x, g, e, diffs)
+	return calls, true
+}
+
+// box3DLBFGSCentralRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
+// that moving xᵢ by a few of its rounding units makes in gᵢ:
+// where no step the step test resolves decreases f, a gradient that small
+// is zero to the rounding of x (the resolution of x in floating point,
+// common practice). It is added only at a stall, so a gradient far above
+// it still ends the run as stalled.
+func box3DLBFGSCentralRoundingFloor(x, g, e *[3]float64, diffs *box3DLBFGSCentralDifferences) {
+	var h [3]float64
+	box3DLBFGSCentralDiagonalCurvature(x, g, diffs, &h)
+	for i := range e {
+		e[i] += 4 * box3DLBFGSCentralUnitRoundoff * box3DLBFGSCentralAbs(x[i]) * h[i]
+	}
+}
+
+// box3DLBFGSCentralDiagonalCurvature takes each |f″| along eᵢ from the differences' last
+// calibration, which box3DLBFGSCentralConfirmGradient has just made at x.
+func box3DLBFGSCentralDiagonalCurvature(x, g *[3]float64, diffs *box3DLBFGSCentralDifferences, h *[3]float64) {
+	*h = diffs.second
 }
 
 // box3DLBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
@@ -486,7 +807,7 @@ func box3DLBFGSCentralTinyStep(x, d *[3]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func box3DLBFGSCentralLineSearch(x *[3]float64, fx float64, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64) box3DLBFGSCentralLineResult {
+func box3DLBFGSCentralLineSearch(x *[3]float64, fx float64, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *box3DLBFGSCentralDifferences) box3DLBFGSCentralLineResult {
 	low := box3DLBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high box3DLBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                                 // ∇f at low, kept for accepting low from a collapsed bracket
@@ -518,7 +839,7 @@ func box3DLBFGSCentralLineSearch(x *[3]float64, fx float64, d *[3]float64, slope
 			if calls+box3DLBFGSCentralDerivativeCost > budget {
 				return box3DLBFGSCentralLineResult{calls: calls, end: box3DLBFGSCentralSearchOutOfBudget}
 			}
-			box3DLBFGSCentralDerivative(xt, current.value, gt)
+			box3DLBFGSCentralDerivative(xt, current.value, gt, diffs)
 			calls += box3DLBFGSCentralDerivativeCost
 			current.slope, current.hasSlope = box3DLBFGSCentralDot(gt, d), true
 			switch {
@@ -543,7 +864,7 @@ func box3DLBFGSCentralLineSearch(x *[3]float64, fx float64, d *[3]float64, slope
 	if low.step > 0 {
 		return box3DLBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
 	}
-	return box3DLBFGSCentralLineResult{calls: calls, end: box3DLBFGSCentralSearchExhausted}
+	return box3DLBFGSCentralLineResult{calls: calls, rising: trend.contradicts(), end: box3DLBFGSCentralSearchExhausted}
 }
 
 // box3DLBFGSCentralLineResult is what a line search reports to the kernel.
@@ -644,6 +965,7 @@ const (
 	box3DLBFGSCentralSearchExhausted                                     // box3DLBFGSCentralStepTrials trials met none
 	box3DLBFGSCentralSearchOutOfBudget                                   // the evaluation cap came first
 	box3DLBFGSCentralSearchTiny                                          // every step longer than tiny failed to decrease f
+	box3DLBFGSCentralSearchDiverged                                      // a fixed step's value overflowed
 )
 
 // box3DLBFGSCentralAcceptLow ends a Wolfe search with its best trial, which met sufficient
@@ -709,26 +1031,6 @@ func box3DLBFGSCentralModelMinimizer(a, b *box3DLBFGSCentralLinePoint) (t float6
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, box3DLBFGSCentralFinite(t)
-}
-
-// box3DLBFGSCentralSquareRoot returns √v.
-func box3DLBFGSCentralSquareRoot(v float64) float64 {
-	return math.Sqrt(v)
-}
-
-// box3DLBFGSCentralClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func box3DLBFGSCentralClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // box3DLBFGSCentralExpandTrial picks a larger trial after current met sufficient decrease

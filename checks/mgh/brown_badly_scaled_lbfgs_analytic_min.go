@@ -8,10 +8,10 @@ import "math"
 type BrownBadlyScaledLBFGSAnalyticStatus uint8
 
 const (
-	// BrownBadlyScaledLBFGSAnalyticGradientSmall: the largest gradient component fell to the gradient limit: converged.
+	// BrownBadlyScaledLBFGSAnalyticGradientSmall: the gradient test holds at X: its measure, with the differences' error bound when they are used, is at most the gradient limit: converged.
 	BrownBadlyScaledLBFGSAnalyticGradientSmall BrownBadlyScaledLBFGSAnalyticStatus = iota + 1
-	// BrownBadlyScaledLBFGSAnalyticStepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f: converged.
-	BrownBadlyScaledLBFGSAnalyticStepTiny
+	// BrownBadlyScaledLBFGSAnalyticStalled: the step test ended the run, or no step longer than the step limit decreased f, while the gradient test still fails: X is as far as the run could get, not a verified minimizer.
+	BrownBadlyScaledLBFGSAnalyticStalled
 	// BrownBadlyScaledLBFGSAnalyticOutOfIterations: the iteration limit came first.
 	BrownBadlyScaledLBFGSAnalyticOutOfIterations
 	// BrownBadlyScaledLBFGSAnalyticOutOfEvaluations: the next objective call would have exceeded the evaluation cap.
@@ -22,8 +22,10 @@ const (
 	BrownBadlyScaledLBFGSAnalyticNonFiniteStart
 	// BrownBadlyScaledLBFGSAnalyticNonFiniteGradient: a gradient component became NaN or ±Inf.
 	BrownBadlyScaledLBFGSAnalyticNonFiniteGradient
-	// BrownBadlyScaledLBFGSAnalyticNoDecrease: no step longer than the step limit decreased f, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test).
+	// BrownBadlyScaledLBFGSAnalyticNoDecrease: the line search found no acceptable step, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test).
 	BrownBadlyScaledLBFGSAnalyticNoDecrease
+	// BrownBadlyScaledLBFGSAnalyticDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
+	BrownBadlyScaledLBFGSAnalyticDiverged
 )
 
 // String describes the status in a few words.
@@ -31,8 +33,8 @@ func (s BrownBadlyScaledLBFGSAnalyticStatus) String() string {
 	switch s {
 	case BrownBadlyScaledLBFGSAnalyticGradientSmall:
 		return "gradient small"
-	case BrownBadlyScaledLBFGSAnalyticStepTiny:
-		return "step tiny"
+	case BrownBadlyScaledLBFGSAnalyticStalled:
+		return "stalled"
 	case BrownBadlyScaledLBFGSAnalyticOutOfIterations:
 		return "out of iterations"
 	case BrownBadlyScaledLBFGSAnalyticOutOfEvaluations:
@@ -45,28 +47,32 @@ func (s BrownBadlyScaledLBFGSAnalyticStatus) String() string {
 		return "non-finite gradient"
 	case BrownBadlyScaledLBFGSAnalyticNoDecrease:
 		return "no decrease"
+	case BrownBadlyScaledLBFGSAnalyticDiverged:
+		return "diverged"
 	default:
 		return "unknown status"
 	}
 }
 
-// Converged reports whether a convergence test, on the gradient or on the step, ended the run; limits, line-search failure and non-finite values are not convergence.
+// Converged reports whether the gradient test holds at X (Gradient ≤ GradientLimit in the result): only then is X a verified stationary point; a stall, the limits, line-search failure and non-finite values are not convergence.
 func (s BrownBadlyScaledLBFGSAnalyticStatus) Converged() bool {
-	return s == BrownBadlyScaledLBFGSAnalyticGradientSmall || s == BrownBadlyScaledLBFGSAnalyticStepTiny
+	return s == BrownBadlyScaledLBFGSAnalyticGradientSmall
 }
 
 // BrownBadlyScaledLBFGSAnalyticResult is where BrownBadlyScaledLBFGSAnalytic stopped and why.
 type BrownBadlyScaledLBFGSAnalyticResult struct {
-	X           [2]float64                          // the last accepted point, the best one found
-	F           float64                             // the objective at X
-	Iterations  int                                 // accepted steps
-	Evaluations int                                 // objective calls, finite differences included
-	Status      BrownBadlyScaledLBFGSAnalyticStatus // why the run stopped; check Status.Converged()
+	X             [2]float64                          // where the gradient test held, when converged; else the lowest point seen
+	F             float64                             // the objective at X
+	Gradient      float64                             // the gradient test's measure at X, the differences' error bound included; NaN when the run ended before the gradient at X was known
+	GradientLimit float64                             // the limit Gradient was held to: Limits.Gradient, raised with differences to ten times the measure of their error bound; converged runs have Gradient ≤ GradientLimit
+	Iterations    int                                 // accepted steps
+	Evaluations   int                                 // objective calls, finite differences included
+	Status        BrownBadlyScaledLBFGSAnalyticStatus // why the run stopped; check Status.Converged()
 }
 
 // BrownBadlyScaledLBFGSAnalyticLimits are the stop limits of one run. Pass them to BrownBadlyScaledLBFGSAnalyticWithLimits to change them at run time; BrownBadlyScaledLBFGSAnalyticDefaultLimits returns the spec's.
 type BrownBadlyScaledLBFGSAnalyticLimits struct {
-	Gradient    float64 // stop when the largest |∂f/∂xᵢ| is at most this
+	Gradient    float64 // stop, converged, when the gradient test's measure is at most this (with differences, at most ten times the measure of their error bound where that is larger)
 	Step        float64 // stop when every |Δxᵢ| is at most this·(|xᵢ| + 1)
 	Iterations  int     // most accepted steps
 	Evaluations int     // hard cap on objective calls, finite differences included; never exceeded
@@ -87,10 +93,11 @@ func BrownBadlyScaledLBFGSAnalyticDefaultLimits() BrownBadlyScaledLBFGSAnalyticL
 // Direction lbfgs: limited-memory BFGS: the last `memory` pairs, two-loop recursion (2·memory·dim numbers).
 // Step rule wolfe: bracket and zoom until sufficient decrease and the curvature condition hold.
 // Derivative analytic: the user's own gradient function (spec key `gradient`); costs no objective calls.
+// Gradient test relative: max over i of (|∂f/∂xᵢ| + eᵢ)·max(|xᵢ|, 1)/max(|f(x)|, 1), eᵢ the error bound of differences (0 for an analytic gradient).
 // Constants: initial 1.0, c1 0.0001, c2 0.9, at most 48 trials per line search, memory 5 pairs.
-// Default stop: largest gradient component ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
+// Default stop: gradient measure ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
 //
-// Worst case: 200000 objective calls (the evaluation cap; the iteration limit alone would allow 240001). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
+// Worst case: 200000 objective calls (the evaluation cap; the iteration limit alone would allow 240049). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
 func BrownBadlyScaledLBFGSAnalytic(x0 [2]float64) BrownBadlyScaledLBFGSAnalyticResult {
 	return BrownBadlyScaledLBFGSAnalyticWithLimits(x0, BrownBadlyScaledLBFGSAnalyticDefaultLimits())
@@ -100,11 +107,13 @@ func BrownBadlyScaledLBFGSAnalytic(x0 [2]float64) BrownBadlyScaledLBFGSAnalyticR
 func BrownBadlyScaledLBFGSAnalyticWithLimits(x0 [2]float64, limits BrownBadlyScaledLBFGSAnalyticLimits) BrownBadlyScaledLBFGSAnalyticResult {
 	out := brownBadlyScaledLBFGSAnalyticMinimize(x0, limits)
 	return BrownBadlyScaledLBFGSAnalyticResult{
-		Evaluations: out.evaluations,
-		F:           out.f,
-		Iterations:  out.iterations,
-		Status:      out.status,
-		X:           out.x,
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
 	}
 }
 
@@ -122,22 +131,36 @@ const (
 
 // brownBadlyScaledLBFGSAnalyticMinimize runs the descent loop from x0 within lim:
 //
-//  1. stop when the largest gradient component is at most lim.Gradient;
+//  1. stop, converged, when the gradient measure (brownBadlyScaledLBFGSAnalyticGradientMeasure, error
+//     bound of differences included) is at most the limit: lim.Gradient,
+//     or three times the measure of the differences' error bound when that is
+//     larger, so that the limit can be met (the floor the test can see);
+//     differences confirm it first (brownBadlyScaledLBFGSAnalyticConfirmGradient);
 //  2. stop after lim.Iterations accepted steps;
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
-//  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged,
-//     unless f contradicts an analytic gradient: no decrease);
+//  4. search along d; stop when no trial is acceptable or only steps
+//     shorter than the step limit are left to try: stalled, or no
+//     decrease when f contradicts an analytic gradient (see brownBadlyScaledLBFGSAnalyticRiseTrend);
 //  5. move, refresh the gradient, let the direction learn from the step;
-//  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
+//  6. stop, stalled, when every |Δx_i| is at most lim.Step·(|x_i| + 1) while
+//     the gradient test still fails. At a stall the run settles first
+//     (settle): the error bound gains the rounding floor of x, with
+//     differences confirmed, and the limit rises to ten times the larger
+//     of lim.Gradient and the bound's measure; a gradient within that is
+//     as small as this point can show, and the run is converged with that
+//     limit, which it reports.
 //
-// Before every objective call it checks that lim.Evaluations leaves room
-// for it, so the cap is never exceeded. A NaN or ±Inf at the start or in a
+// Only step 1 is convergence: the first-order test holds at X. Before
+// every objective call it checks that lim.Evaluations leaves room for it,
+// so the cap is never exceeded. A NaN or ±Inf at the start or in a
 // gradient ends the run with its own status; a non-finite trial value is
-// rejected by the line search like any failed trial.
+// rejected by the line search like any failed trial. X is the best point
+// seen unless the run converged, which it did at X. A fixed step whose
+// value overflows, or that raised f above f(x0) at eight steps in a row,
+// ends the run as diverged (common practice for a divergence test).
 func brownBadlyScaledLBFGSAnalyticMinimize(x0 [2]float64, lim BrownBadlyScaledLBFGSAnalyticLimits) brownBadlyScaledLBFGSAnalyticOutcome {
-	out := brownBadlyScaledLBFGSAnalyticOutcome{x: x0, status: BrownBadlyScaledLBFGSAnalyticOutOfEvaluations}
+	out := brownBadlyScaledLBFGSAnalyticOutcome{x: x0, status: BrownBadlyScaledLBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
@@ -148,11 +171,14 @@ func brownBadlyScaledLBFGSAnalyticMinimize(x0 [2]float64, lim BrownBadlyScaledLB
 		out.status = BrownBadlyScaledLBFGSAnalyticNonFiniteStart
 		return out
 	}
-	if out.evaluations+brownBadlyScaledLBFGSAnalyticDerivativeCost > lim.Evaluations {
+	var diffs brownBadlyScaledLBFGSAnalyticDifferences
+	calls, ok := brownBadlyScaledLBFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
+	out.evaluations += calls
+	if !ok || out.evaluations+brownBadlyScaledLBFGSAnalyticDerivativeCost > lim.Evaluations {
 		return out
 	}
-	var g [2]float64
-	brownBadlyScaledLBFGSAnalyticDerivative(&x, fx, &g)
+	var g, e [2]float64
+	brownBadlyScaledLBFGSAnalyticDerivative(&x, fx, &g, &diffs)
 	out.evaluations += brownBadlyScaledLBFGSAnalyticDerivativeCost
 
 	if !brownBadlyScaledLBFGSAnalyticFiniteVec(&g) {
@@ -163,21 +189,76 @@ func brownBadlyScaledLBFGSAnalyticMinimize(x0 [2]float64, lim BrownBadlyScaledLB
 	dir.reset()
 	var d, xt, gt, s, y [2]float64
 	t, slope := float64(brownBadlyScaledLBFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
+	best := out                                                               // the lowest point seen, for runs that end unconverged
+	start, rises := fx, 0                                                     // f(x0), and consecutive accepted steps that raised f above it
+	confirmed := false                                                        // whether g and e at x come from brownBadlyScaledLBFGSAnalyticConfirmGradient
+	stalled := false                                                          // whether the run can make no more progress at x
+	retried := -1                                                             // the iteration whose stall was retried with recalibrated differences
 	for {
-		if brownBadlyScaledLBFGSAnalyticMaxAbs(&g) <= lim.Gradient {
+		if !confirmed {
+			brownBadlyScaledLBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
+		}
+		measure, floor := brownBadlyScaledLBFGSAnalyticGradientMeasure(&g, &e, &x, fx)
+		out.gradient, out.gradientLimit = measure, brownBadlyScaledLBFGSAnalyticLarger(lim.Gradient, 3*floor)
+		if stalled {
+			// No step can make progress here: the gradient is as small as
+			// this point shows it, within ten times the limit or the floor.
+			out.gradientLimit = 10 * brownBadlyScaledLBFGSAnalyticLarger(lim.Gradient, floor)
+		}
+		if out.f <= best.f {
+			best = out
+		}
+		if measure <= out.gradientLimit && (brownBadlyScaledLBFGSAnalyticDerivativeCost == 0 || confirmed) {
 			out.status = BrownBadlyScaledLBFGSAnalyticGradientSmall
 			return out
 		}
-		if out.iterations > 0 {
+		if measure <= out.gradientLimit {
+			// Differences pass the test: confirm it with intervals chosen
+			// here and an error measured rather than modelled.
+			calls, ok := brownBadlyScaledLBFGSAnalyticConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(BrownBadlyScaledLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !brownBadlyScaledLBFGSAnalyticFiniteVec(&g) {
+				return best.ending(BrownBadlyScaledLBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			confirmed = true
+			continue
+		}
+		if stalled {
+			// Settled and still above the limit: stalled, unless
+			// differences, whose intervals were just chosen here, can
+			// search once more with the better gradient.
+			if brownBadlyScaledLBFGSAnalyticDerivativeCost == 0 {
+				return best.ending(BrownBadlyScaledLBFGSAnalyticStalled, out.iterations, out.evaluations)
+			}
+			stalled, retried = false, out.iterations
+		}
+		// At a stall, settle first: the run is converged if the gradient
+		// is zero to the rounding of x (and, with differences, to their
+		// accuracy, confirmed); see settle.
+		canSettle := retried != out.iterations
+		if out.iterations > 0 && canSettle {
 			if brownBadlyScaledLBFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				out.status = BrownBadlyScaledLBFGSAnalyticStepTiny
-				return out
+				calls, ok := brownBadlyScaledLBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+				out.evaluations += calls
+				if !ok {
+					return best.ending(BrownBadlyScaledLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+				}
+				if !brownBadlyScaledLBFGSAnalyticFiniteVec(&g) {
+					return best.ending(BrownBadlyScaledLBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+				}
+				stalled, confirmed = true, true
+				continue
+			}
+			if rises >= 8 {
+				return best.ending(BrownBadlyScaledLBFGSAnalyticDiverged, out.iterations, out.evaluations)
 			}
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
-			out.status = BrownBadlyScaledLBFGSAnalyticOutOfIterations
-			return out
+			return best.ending(BrownBadlyScaledLBFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
 		}
 		dir.compute(&g, &d)
 		now := brownBadlyScaledLBFGSAnalyticDot(&g, &d)
@@ -191,50 +272,70 @@ func brownBadlyScaledLBFGSAnalyticMinimize(x0 [2]float64, lim BrownBadlyScaledLB
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := brownBadlyScaledLBFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := brownBadlyScaledLBFGSAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt)
+		found := brownBadlyScaledLBFGSAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case brownBadlyScaledLBFGSAnalyticSearchOutOfBudget:
-			return out
-		case brownBadlyScaledLBFGSAnalyticSearchExhausted:
-			out.status = BrownBadlyScaledLBFGSAnalyticNoAcceptableStep
-			return out
-		case brownBadlyScaledLBFGSAnalyticSearchTiny:
-			// Converged to the step limit: no step the step test would
-			// reject decreases f. Not so when an analytic gradient is
-			// contradicted by f rising in proportion to the step (see
-			// brownBadlyScaledLBFGSAnalyticRiseTrend, which never reports that for differences).
-			out.status = BrownBadlyScaledLBFGSAnalyticStepTiny
-			if found.rising {
-				out.status = BrownBadlyScaledLBFGSAnalyticNoDecrease
+			return best.ending(BrownBadlyScaledLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+		case brownBadlyScaledLBFGSAnalyticSearchDiverged:
+			return best.ending(BrownBadlyScaledLBFGSAnalyticDiverged, out.iterations, out.evaluations)
+		case brownBadlyScaledLBFGSAnalyticSearchExhausted, brownBadlyScaledLBFGSAnalyticSearchTiny:
+			// No acceptable step. When an analytic gradient predicted a
+			// fall that f contradicted in proportion to the step, the
+			// gradient is probably wrong (see brownBadlyScaledLBFGSAnalyticRiseTrend, which never
+			// reports that for differences); otherwise the search stalled
+			// below the step limit, or ran out of trials.
+			end := BrownBadlyScaledLBFGSAnalyticNoAcceptableStep
+			switch {
+			case found.rising:
+				end = BrownBadlyScaledLBFGSAnalyticNoDecrease
+			case found.end == brownBadlyScaledLBFGSAnalyticSearchTiny && canSettle:
+				calls, ok := brownBadlyScaledLBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+				out.evaluations += calls
+				if !ok {
+					return best.ending(BrownBadlyScaledLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+				}
+				if !brownBadlyScaledLBFGSAnalyticFiniteVec(&g) {
+					return best.ending(BrownBadlyScaledLBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+				}
+				stalled, confirmed = true, true
+				continue
+			case found.end == brownBadlyScaledLBFGSAnalyticSearchTiny:
+				end = BrownBadlyScaledLBFGSAnalyticStalled
 			}
-			return out
+			return best.ending(end, out.iterations, out.evaluations)
 		}
 		if !brownBadlyScaledLBFGSAnalyticFiniteVec(&xt) {
-			out.status = BrownBadlyScaledLBFGSAnalyticNoAcceptableStep // the accepted trial overflowed x
-			return out
+			return best.ending(BrownBadlyScaledLBFGSAnalyticNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
 		}
 		if !found.gradient {
 			if out.evaluations+brownBadlyScaledLBFGSAnalyticDerivativeCost > lim.Evaluations {
-				if found.value < fx { // keep a better point even without its gradient
-					out.x, out.f = xt, found.value
+				if found.value < best.f { // keep a better point even without its gradient
+					best.x, best.f, best.gradient = xt, found.value, math.NaN()
 					out.iterations++
 				}
-				return out
+				return best.ending(BrownBadlyScaledLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			brownBadlyScaledLBFGSAnalyticDerivative(&xt, found.value, &gt)
+			brownBadlyScaledLBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
 			out.evaluations += brownBadlyScaledLBFGSAnalyticDerivativeCost
 		}
 		out.iterations++
 		brownBadlyScaledLBFGSAnalyticDifference(&s, &xt, &x)
 		brownBadlyScaledLBFGSAnalyticDifference(&y, &gt, &g)
-		x, fx, g = xt, found.value, gt
-		out.x, out.f = x, fx
+		if found.value > fx && found.value > start {
+			rises++
+		} else {
+			rises = 0
+		}
+		x, fx, g, confirmed = xt, found.value, gt, false
+		out.x, out.f, out.gradient = x, fx, math.NaN()
 		t, slope = found.step, now
 
 		if !brownBadlyScaledLBFGSAnalyticFiniteVec(&g) {
-			out.status = BrownBadlyScaledLBFGSAnalyticNonFiniteGradient
-			return out
+			if out.f < best.f {
+				best = out
+			}
+			return best.ending(BrownBadlyScaledLBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
 		}
 	}
 }
@@ -242,11 +343,19 @@ func brownBadlyScaledLBFGSAnalyticMinimize(x0 [2]float64, lim BrownBadlyScaledLB
 // brownBadlyScaledLBFGSAnalyticOutcome is the kernel's report; the generated entry point copies it into
 // the spec's result type.
 type brownBadlyScaledLBFGSAnalyticOutcome struct {
-	x           [2]float64
-	f           float64
-	iterations  int
-	evaluations int
-	status      BrownBadlyScaledLBFGSAnalyticStatus
+	x             [2]float64
+	f             float64
+	gradient      float64 // the stop test's measure at x, error bound included; NaN when not known
+	gradientLimit float64 // the limit that measure was held to
+	iterations    int
+	evaluations   int
+	status        BrownBadlyScaledLBFGSAnalyticStatus
+}
+
+// ending is the best point seen, reported with the run's end and counts.
+func (o brownBadlyScaledLBFGSAnalyticOutcome) ending(end BrownBadlyScaledLBFGSAnalyticStatus, iterations, evaluations int) brownBadlyScaledLBFGSAnalyticOutcome {
+	o.status, o.iterations, o.evaluations = end, iterations, evaluations
+	return o
 }
 
 // brownBadlyScaledLBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
@@ -271,8 +380,24 @@ func brownBadlyScaledLBFGSAnalyticFiniteVec(x *[2]float64) bool {
 	return true
 }
 
+// brownBadlyScaledLBFGSAnalyticDifferences is what the difference gradients learn from the objective
+// at the start: for each coordinate i, the interval as a multiple of
+// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
+// forward differences, |f‴| for central ones). The analytic gradient
+// leaves it unused.
+type brownBadlyScaledLBFGSAnalyticDifferences struct {
+	ratio     [2]float64
+	curvature [2]float64
+	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see brownBadlyScaledLBFGSAnalyticRoundingFloor)
+}
+
+// brownBadlyScaledLBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
+func brownBadlyScaledLBFGSAnalyticCalibrate(x *[2]float64, fx float64, diffs *brownBadlyScaledLBFGSAnalyticDifferences, budget int) (int, bool) {
+	return 0, true
+}
+
 // brownBadlyScaledLBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func brownBadlyScaledLBFGSAnalyticDerivative(x *[2]float64, fx float64, g *[2]float64) {
+func brownBadlyScaledLBFGSAnalyticDerivative(x *[2]float64, fx float64, g *[2]float64, diffs *brownBadlyScaledLBFGSAnalyticDifferences) {
 	BrownBadlyScaledGrad(x, g)
 }
 
@@ -391,15 +516,43 @@ func brownBadlyScaledLBFGSAnalyticCurvatureSafe(s, y *[2]float64) bool {
 	return sy > 0 && (sy/brownBadlyScaledLBFGSAnalyticDot(s, s))*(sy/brownBadlyScaledLBFGSAnalyticDot(y, y)) > brownBadlyScaledLBFGSAnalyticUnitRoundoff
 }
 
-// brownBadlyScaledLBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
-func brownBadlyScaledLBFGSAnalyticMaxAbs(x *[2]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := brownBadlyScaledLBFGSAnalyticAbs(x[i]); a > m || a != a {
-			m = a
-		}
+// brownBadlyScaledLBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func brownBadlyScaledLBFGSAnalyticGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *brownBadlyScaledLBFGSAnalyticDifferences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return m
+}
+
+// brownBadlyScaledLBFGSAnalyticGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func brownBadlyScaledLBFGSAnalyticGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
+	scale := brownBadlyScaledLBFGSAnalyticLarger(brownBadlyScaledLBFGSAnalyticAbs(fx), 1)
+	for i := range g {
+		w := brownBadlyScaledLBFGSAnalyticLarger(brownBadlyScaledLBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = brownBadlyScaledLBFGSAnalyticLarger(measure, (brownBadlyScaledLBFGSAnalyticAbs(g[i])+e[i])*w)
+		floor = brownBadlyScaledLBFGSAnalyticLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// brownBadlyScaledLBFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func brownBadlyScaledLBFGSAnalyticLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
 }
 
 // brownBadlyScaledLBFGSAnalyticAbs returns |v|.
@@ -408,6 +561,36 @@ func brownBadlyScaledLBFGSAnalyticAbs(v float64) float64 {
 		return -v
 	}
 	return v
+}
+
+// brownBadlyScaledLBFGSAnalyticConfirmGradient recomputes a difference gradient at x before the run is
+// called converged there: it chooses the intervals again from the
+// curvature at x (calibrate), computes g with them and with twice them,
+// and bounds each component's error by the model (brownBadlyScaledLBFGSAnalyticGradientError) plus
+// three times the change the doubling made. That change measures what the
+// model can miss, truncation from curvature that varies and rounding
+// noise above 4u·|f|; as one sample of that noise it is tripled
+// (Richardson's idea of comparing two intervals; the factor is common
+// practice for a posteriori error estimates). It costs a calibration and two
+// gradients, and returns the calls spent and false when budget ran out
+// first.
+func brownBadlyScaledLBFGSAnalyticConfirmGradient(x *[2]float64, fx float64, g, e *[2]float64, diffs *brownBadlyScaledLBFGSAnalyticDifferences, budget int) (int, bool) {
+	calls, ok := brownBadlyScaledLBFGSAnalyticCalibrate(x, fx, diffs, budget)
+	if !ok || calls+2*brownBadlyScaledLBFGSAnalyticDerivativeCost > budget {
+		return calls, false
+	}
+	wide := *diffs
+	for i := range wide.ratio {
+		wide.ratio[i] *= 2
+	}
+	var doubled [2]float64
+	brownBadlyScaledLBFGSAnalyticDerivative(x, fx, g, diffs)
+	brownBadlyScaledLBFGSAnalyticDerivative(x, fx, &doubled, &wide)
+	brownBadlyScaledLBFGSAnalyticGradientError(x, fx, g, e, diffs)
+	for i := range e {
+		e[i] += 3 * brownBadlyScaledLBFGSAnalyticAbs(g[i]-doubled[i])
+	}
+	return calls + 2*brownBadlyScaledLBFGSAnalyticDerivativeCost, true
 }
 
 // brownBadlyScaledLBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
@@ -420,6 +603,65 @@ func brownBadlyScaledLBFGSAnalyticStepWithin(s, x *[2]float64, tol float64) bool
 		}
 	}
 	return true
+}
+
+// brownBadlyScaledLBFGSAnalyticSettle prepares the final verdict at a stall: with differences it
+// confirms the gradient (brownBadlyScaledLBFGSAnalyticConfirmGradient), then it adds to each error
+// bound the rounding floor of x (brownBadlyScaledLBFGSAnalyticRoundingFloor). It returns the objective
+// calls spent and false when budget ran out first.
+func brownBadlyScaledLBFGSAnalyticSettle(x *[2]float64, fx float64, g, e *[2]float64, diffs *brownBadlyScaledLBFGSAnalyticDifferences, budget int) (int, bool) {
+	calls := 0
+	if brownBadlyScaledLBFGSAnalyticDerivativeCost > 0 {
+		spent, ok := brownBadlyScaledLBFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
+	}
+	brownBadlyScaledLBFGSAnalyticRoundingFloor(x, g, e, diffs)
+	return calls, true
+}
+
+// brownBadlyScaledLBFGSAnalyticRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
+// that moving xᵢ by a few of its rounding units makes in gᵢ:
+// where no step the step test resolves decreases f, a gradient that small
+// is zero to the rounding of x (the resolution of x in floating point,
+// common practice). It is added only at a stall, so a gradient far above
+// it still ends the run as stalled.
+func brownBadlyScaledLBFGSAnalyticRoundingFloor(x, g, e *[2]float64, diffs *brownBadlyScaledLBFGSAnalyticDifferences) {
+	var h [2]float64
+	brownBadlyScaledLBFGSAnalyticDiagonalCurvature(x, g, diffs, &h)
+	for i := range e {
+		e[i] += 4 * brownBadlyScaledLBFGSAnalyticUnitRoundoff * brownBadlyScaledLBFGSAnalyticAbs(x[i]) * h[i]
+	}
+}
+
+// brownBadlyScaledLBFGSAnalyticDiagonalCurvature estimates each |∂²f/∂xᵢ²| from the analytic gradient
+// at x + δᵢeᵢ, δᵢ = √u·max(1, |xᵢ|): dim gradient calls and no objective
+// call (a forward difference of the gradient, Nocedal & Wright 2006,
+// §8.1).
+func brownBadlyScaledLBFGSAnalyticDiagonalCurvature(x, g *[2]float64, diffs *brownBadlyScaledLBFGSAnalyticDifferences, h *[2]float64) {
+	probe := *x
+	var moved [2]float64
+	for i := range probe {
+		xi := probe[i]
+		up, delta := brownBadlyScaledLBFGSAnalyticProbeStep(xi, brownBadlyScaledLBFGSAnalyticSquareRoot(brownBadlyScaledLBFGSAnalyticUnitRoundoff)*brownBadlyScaledLBFGSAnalyticLarger(1, brownBadlyScaledLBFGSAnalyticAbs(xi)))
+		probe[i] = up
+		BrownBadlyScaledGrad(&probe, &moved)
+		h[i] = brownBadlyScaledLBFGSAnalyticAbs(moved[i]-g[i]) / delta
+		probe[i] = xi
+	}
+}
+
+// brownBadlyScaledLBFGSAnalyticProbeStep returns x_i moved by h, and the step actually representable.
+func brownBadlyScaledLBFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
+	moved := xi + h
+	return moved, moved - xi
+}
+
+// brownBadlyScaledLBFGSAnalyticSquareRoot returns √v.
+func brownBadlyScaledLBFGSAnalyticSquareRoot(v float64) float64 {
+	return math.Sqrt(v)
 }
 
 // brownBadlyScaledLBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
@@ -458,7 +700,7 @@ func brownBadlyScaledLBFGSAnalyticTinyStep(x, d *[2]float64, tol float64) float6
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func brownBadlyScaledLBFGSAnalyticLineSearch(x *[2]float64, fx float64, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64) brownBadlyScaledLBFGSAnalyticLineResult {
+func brownBadlyScaledLBFGSAnalyticLineSearch(x *[2]float64, fx float64, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *brownBadlyScaledLBFGSAnalyticDifferences) brownBadlyScaledLBFGSAnalyticLineResult {
 	low := brownBadlyScaledLBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high brownBadlyScaledLBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                             // ∇f at low, kept for accepting low from a collapsed bracket
@@ -490,7 +732,7 @@ func brownBadlyScaledLBFGSAnalyticLineSearch(x *[2]float64, fx float64, d *[2]fl
 			if calls+brownBadlyScaledLBFGSAnalyticDerivativeCost > budget {
 				return brownBadlyScaledLBFGSAnalyticLineResult{calls: calls, end: brownBadlyScaledLBFGSAnalyticSearchOutOfBudget}
 			}
-			brownBadlyScaledLBFGSAnalyticDerivative(xt, current.value, gt)
+			brownBadlyScaledLBFGSAnalyticDerivative(xt, current.value, gt, diffs)
 			calls += brownBadlyScaledLBFGSAnalyticDerivativeCost
 			current.slope, current.hasSlope = brownBadlyScaledLBFGSAnalyticDot(gt, d), true
 			switch {
@@ -515,7 +757,7 @@ func brownBadlyScaledLBFGSAnalyticLineSearch(x *[2]float64, fx float64, d *[2]fl
 	if low.step > 0 {
 		return brownBadlyScaledLBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
 	}
-	return brownBadlyScaledLBFGSAnalyticLineResult{calls: calls, end: brownBadlyScaledLBFGSAnalyticSearchExhausted}
+	return brownBadlyScaledLBFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: brownBadlyScaledLBFGSAnalyticSearchExhausted}
 }
 
 // brownBadlyScaledLBFGSAnalyticLineResult is what a line search reports to the kernel.
@@ -616,6 +858,7 @@ const (
 	brownBadlyScaledLBFGSAnalyticSearchExhausted                                                 // brownBadlyScaledLBFGSAnalyticStepTrials trials met none
 	brownBadlyScaledLBFGSAnalyticSearchOutOfBudget                                               // the evaluation cap came first
 	brownBadlyScaledLBFGSAnalyticSearchTiny                                                      // every step longer than tiny failed to decrease f
+	brownBadlyScaledLBFGSAnalyticSearchDiverged                                                  // a fixed step's value overflowed
 )
 
 // brownBadlyScaledLBFGSAnalyticAcceptLow ends a Wolfe search with its best trial, which met sufficient
@@ -681,11 +924,6 @@ func brownBadlyScaledLBFGSAnalyticModelMinimizer(a, b *brownBadlyScaledLBFGSAnal
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, brownBadlyScaledLBFGSAnalyticFinite(t)
-}
-
-// brownBadlyScaledLBFGSAnalyticSquareRoot returns √v.
-func brownBadlyScaledLBFGSAnalyticSquareRoot(v float64) float64 {
-	return math.Sqrt(v)
 }
 
 // brownBadlyScaledLBFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in

@@ -8,10 +8,10 @@ import "math"
 type GaussianBFGSCentralStatus uint8
 
 const (
-	// GaussianBFGSCentralGradientSmall: the largest gradient component fell to the gradient limit: converged.
+	// GaussianBFGSCentralGradientSmall: the gradient test holds at X: its measure, with the differences' error bound when they are used, is at most the gradient limit: converged.
 	GaussianBFGSCentralGradientSmall GaussianBFGSCentralStatus = iota + 1
-	// GaussianBFGSCentralStepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f: converged.
-	GaussianBFGSCentralStepTiny
+	// GaussianBFGSCentralStalled: the step test ended the run, or no step longer than the step limit decreased f, while the gradient test still fails: X is as far as the run could get, not a verified minimizer.
+	GaussianBFGSCentralStalled
 	// GaussianBFGSCentralOutOfIterations: the iteration limit came first.
 	GaussianBFGSCentralOutOfIterations
 	// GaussianBFGSCentralOutOfEvaluations: the next objective call would have exceeded the evaluation cap.
@@ -22,8 +22,10 @@ const (
 	GaussianBFGSCentralNonFiniteStart
 	// GaussianBFGSCentralNonFiniteGradient: a gradient component became NaN or ±Inf.
 	GaussianBFGSCentralNonFiniteGradient
-	// GaussianBFGSCentralNoDecrease: no step longer than the step limit decreased f, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test).
+	// GaussianBFGSCentralNoDecrease: the line search found no acceptable step, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test).
 	GaussianBFGSCentralNoDecrease
+	// GaussianBFGSCentralDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
+	GaussianBFGSCentralDiverged
 )
 
 // String describes the status in a few words.
@@ -31,8 +33,8 @@ func (s GaussianBFGSCentralStatus) String() string {
 	switch s {
 	case GaussianBFGSCentralGradientSmall:
 		return "gradient small"
-	case GaussianBFGSCentralStepTiny:
-		return "step tiny"
+	case GaussianBFGSCentralStalled:
+		return "stalled"
 	case GaussianBFGSCentralOutOfIterations:
 		return "out of iterations"
 	case GaussianBFGSCentralOutOfEvaluations:
@@ -45,28 +47,32 @@ func (s GaussianBFGSCentralStatus) String() string {
 		return "non-finite gradient"
 	case GaussianBFGSCentralNoDecrease:
 		return "no decrease"
+	case GaussianBFGSCentralDiverged:
+		return "diverged"
 	default:
 		return "unknown status"
 	}
 }
 
-// Converged reports whether a convergence test, on the gradient or on the step, ended the run; limits, line-search failure and non-finite values are not convergence.
+// Converged reports whether the gradient test holds at X (Gradient ≤ GradientLimit in the result): only then is X a verified stationary point; a stall, the limits, line-search failure and non-finite values are not convergence.
 func (s GaussianBFGSCentralStatus) Converged() bool {
-	return s == GaussianBFGSCentralGradientSmall || s == GaussianBFGSCentralStepTiny
+	return s == GaussianBFGSCentralGradientSmall
 }
 
 // GaussianBFGSCentralResult is where GaussianBFGSCentral stopped and why.
 type GaussianBFGSCentralResult struct {
-	X           [3]float64                // the last accepted point, the best one found
-	F           float64                   // the objective at X
-	Iterations  int                       // accepted steps
-	Evaluations int                       // objective calls, finite differences included
-	Status      GaussianBFGSCentralStatus // why the run stopped; check Status.Converged()
+	X             [3]float64                // where the gradient test held, when converged; else the lowest point seen
+	F             float64                   // the objective at X
+	Gradient      float64                   // the gradient test's measure at X, the differences' error bound included; NaN when the run ended before the gradient at X was known
+	GradientLimit float64                   // the limit Gradient was held to: Limits.Gradient, raised with differences to ten times the measure of their error bound; converged runs have Gradient ≤ GradientLimit
+	Iterations    int                       // accepted steps
+	Evaluations   int                       // objective calls, finite differences included
+	Status        GaussianBFGSCentralStatus // why the run stopped; check Status.Converged()
 }
 
 // GaussianBFGSCentralLimits are the stop limits of one run. Pass them to GaussianBFGSCentralWithLimits to change them at run time; GaussianBFGSCentralDefaultLimits returns the spec's.
 type GaussianBFGSCentralLimits struct {
-	Gradient    float64 // stop when the largest |∂f/∂xᵢ| is at most this
+	Gradient    float64 // stop, converged, when the gradient test's measure is at most this (with differences, at most ten times the measure of their error bound where that is larger)
 	Step        float64 // stop when every |Δxᵢ| is at most this·(|xᵢ| + 1)
 	Iterations  int     // most accepted steps
 	Evaluations int     // hard cap on objective calls, finite differences included; never exceeded
@@ -86,11 +92,12 @@ func GaussianBFGSCentralDefaultLimits() GaussianBFGSCentralLimits {
 //
 // Direction bfgs: BFGS quasi-Newton with a dense inverse-Hessian approximation (dim² numbers).
 // Step rule wolfe: bracket and zoom until sufficient decrease and the curvature condition hold.
-// Derivative central: central differences: 2·dim objective calls per gradient, error O(u^(2/3)).
+// Derivative central: central differences: 2·dim objective calls per gradient, intervals from the objective's curvature, error O(u^(2/3)).
+// Gradient test relative: max over i of (|∂f/∂xᵢ| + eᵢ)·max(|xᵢ|, 1)/max(|f(x)|, 1), eᵢ the error bound of differences (0 for an analytic gradient).
 // Constants: initial 1.0, c1 0.0001, c2 0.9, at most 48 trials per line search.
-// Default stop: largest gradient component ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
+// Default stop: gradient measure ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
 //
-// Worst case: 200000 objective calls, 6 of them per gradient (the evaluation cap; the iteration limit alone would allow 1680007). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
+// Worst case: 200000 objective calls, 6 of them per gradient and 12 per choice of the difference intervals (at the start and before each convergence is confirmed) (the evaluation cap; the iteration limit alone would allow 1800379). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
 func GaussianBFGSCentral(x0 [3]float64) GaussianBFGSCentralResult {
 	return GaussianBFGSCentralWithLimits(x0, GaussianBFGSCentralDefaultLimits())
@@ -100,11 +107,13 @@ func GaussianBFGSCentral(x0 [3]float64) GaussianBFGSCentralResult {
 func GaussianBFGSCentralWithLimits(x0 [3]float64, limits GaussianBFGSCentralLimits) GaussianBFGSCentralResult {
 	out := gaussianBFGSCentralMinimize(x0, limits)
 	return GaussianBFGSCentralResult{
-		Evaluations: out.evaluations,
-		F:           out.f,
-		Iterations:  out.iterations,
-		Status:      out.status,
-		X:           out.x,
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
 	}
 }
 
@@ -117,27 +126,40 @@ const (
 	gaussianBFGSCentralDerivativeCost = 6                      // objective calls per gradient
 	gaussianBFGSCentralUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
 	gaussianBFGSCentralLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
-	gaussianBFGSCentralCentralScale   = 4.806217383937352e-06  // ∛u, central-difference step scale (Nocedal & Wright 2006, §8.1)
 )
 
 // gaussianBFGSCentralMinimize runs the descent loop from x0 within lim:
 //
-//  1. stop when the largest gradient component is at most lim.Gradient;
+//  1. stop, converged, when the gradient measure (gaussianBFGSCentralGradientMeasure, error
+//     bound of differences included) is at most the limit: lim.Gradient,
+//     or three times the measure of the differences' error bound when that is
+//     larger, so that the limit can be met (the floor the test can see);
+//     differences confirm it first (gaussianBFGSCentralConfirmGradient);
 //  2. stop after lim.Iterations accepted steps;
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
-//  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged,
-//     unless f contradicts an analytic gradient: no decrease);
+//  4. search along d; stop when no trial is acceptable or only steps
+//     shorter than the step limit are left to try: stalled, or no
+//     decrease when f contradicts an analytic gradient (see gaussianBFGSCentralRiseTrend);
 //  5. move, refresh the gradient, let the direction learn from the step;
-//  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
+//  6. stop, stalled, when every |Δx_i| is at most lim.Step·(|x_i| + 1) while
+//     the gradient test still fails. At a stall the run settles first
+//     (settle): the error bound gains the rounding floor of x, with
+//     differences confirmed, and the limit rises to ten times the larger
+//     of lim.Gradient and the bound's measure; a gradient within that is
+//     as small as this point can show, and the run is converged with that
+//     limit, which it reports.
 //
-// Before every objective call it checks that lim.Evaluations leaves room
-// for it, so the cap is never exceeded. A NaN or ±Inf at the start or in a
+// Only step 1 is convergence: the first-order test holds at X. Before
+// every objective call it checks that lim.Evaluations leaves room for it,
+// so the cap is never exceeded. A NaN or ±Inf at the start or in a
 // gradient ends the run with its own status; a non-finite trial value is
-// rejected by the line search like any failed trial.
+// rejected by the line search like any failed trial. X is the best point
+// seen unless the run converged, which it did at X. A fixed step whose
+// value overflows, or that raised f above f(x0) at eight steps in a row,
+// ends the run as diverged (common practice for a divergence test).
 func gaussianBFGSCentralMinimize(x0 [3]float64, lim GaussianBFGSCentralLimits) gaussianBFGSCentralOutcome {
-	out := gaussianBFGSCentralOutcome{x: x0, status: GaussianBFGSCentralOutOfEvaluations}
+	out := gaussianBFGSCentralOutcome{x: x0, status: GaussianBFGSCentralOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
@@ -148,11 +170,14 @@ func gaussianBFGSCentralMinimize(x0 [3]float64, lim GaussianBFGSCentralLimits) g
 		out.status = GaussianBFGSCentralNonFiniteStart
 		return out
 	}
-	if out.evaluations+gaussianBFGSCentralDerivativeCost > lim.Evaluations {
+	var diffs gaussianBFGSCentralDifferences
+	calls, ok := gaussianBFGSCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
+	out.evaluations += calls
+	if !ok || out.evaluations+gaussianBFGSCentralDerivativeCost > lim.Evaluations {
 		return out
 	}
-	var g [3]float64
-	gaussianBFGSCentralDerivative(&x, fx, &g)
+	var g, e [3]float64
+	gaussianBFGSCentralDerivative(&x, fx, &g, &diffs)
 	out.evaluations += gaussianBFGSCentralDerivativeCost
 
 	if !gaussianBFGSCentralFiniteVec(&g) {
@@ -163,21 +188,76 @@ func gaussianBFGSCentralMinimize(x0 [3]float64, lim GaussianBFGSCentralLimits) g
 	dir.reset()
 	var d, xt, gt, s, y [3]float64
 	t, slope := float64(gaussianBFGSCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
+	best := out                                                     // the lowest point seen, for runs that end unconverged
+	start, rises := fx, 0                                           // f(x0), and consecutive accepted steps that raised f above it
+	confirmed := false                                              // whether g and e at x come from gaussianBFGSCentralConfirmGradient
+	stalled := false                                                // whether the run can make no more progress at x
+	retried := -1                                                   // the iteration whose stall was retried with recalibrated differences
 	for {
-		if gaussianBFGSCentralMaxAbs(&g) <= lim.Gradient {
+		if !confirmed {
+			gaussianBFGSCentralGradientError(&x, fx, &g, &e, &diffs)
+		}
+		measure, floor := gaussianBFGSCentralGradientMeasure(&g, &e, &x, fx)
+		out.gradient, out.gradientLimit = measure, gaussianBFGSCentralLarger(lim.Gradient, 3*floor)
+		if stalled {
+			// No step can make progress here: the gradient is as small as
+			// this point shows it, within ten times the limit or the floor.
+			out.gradientLimit = 10 * gaussianBFGSCentralLarger(lim.Gradient, floor)
+		}
+		if out.f <= best.f {
+			best = out
+		}
+		if measure <= out.gradientLimit && (gaussianBFGSCentralDerivativeCost == 0 || confirmed) {
 			out.status = GaussianBFGSCentralGradientSmall
 			return out
 		}
-		if out.iterations > 0 {
+		if measure <= out.gradientLimit {
+			// Differences pass the test: confirm it with intervals chosen
+			// here and an error measured rather than modelled.
+			calls, ok := gaussianBFGSCentralConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(GaussianBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !gaussianBFGSCentralFiniteVec(&g) {
+				return best.ending(GaussianBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			confirmed = true
+			continue
+		}
+		if stalled {
+			// Settled and still above the limit: stalled, unless
+			// differences, whose intervals were just chosen here, can
+			// search once more with the better gradient.
+			if gaussianBFGSCentralDerivativeCost == 0 {
+				return best.ending(GaussianBFGSCentralStalled, out.iterations, out.evaluations)
+			}
+			stalled, retried = false, out.iterations
+		}
+		// At a stall, settle first: the run is converged if the gradient
+		// is zero to the rounding of x (and, with differences, to their
+		// accuracy, confirmed); see settle.
+		canSettle := retried != out.iterations
+		if out.iterations > 0 && canSettle {
 			if gaussianBFGSCentralStepWithin(&s, &x, lim.Step) {
-				out.status = GaussianBFGSCentralStepTiny
-				return out
+				calls, ok := gaussianBFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+				out.evaluations += calls
+				if !ok {
+					return best.ending(GaussianBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+				}
+				if !gaussianBFGSCentralFiniteVec(&g) {
+					return best.ending(GaussianBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
+				}
+				stalled, confirmed = true, true
+				continue
+			}
+			if rises >= 8 {
+				return best.ending(GaussianBFGSCentralDiverged, out.iterations, out.evaluations)
 			}
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
-			out.status = GaussianBFGSCentralOutOfIterations
-			return out
+			return best.ending(GaussianBFGSCentralOutOfIterations, out.iterations, out.evaluations)
 		}
 		dir.compute(&g, &d)
 		now := gaussianBFGSCentralDot(&g, &d)
@@ -191,50 +271,70 @@ func gaussianBFGSCentralMinimize(x0 [3]float64, lim GaussianBFGSCentralLimits) g
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := gaussianBFGSCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := gaussianBFGSCentralLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt)
+		found := gaussianBFGSCentralLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case gaussianBFGSCentralSearchOutOfBudget:
-			return out
-		case gaussianBFGSCentralSearchExhausted:
-			out.status = GaussianBFGSCentralNoAcceptableStep
-			return out
-		case gaussianBFGSCentralSearchTiny:
-			// Converged to the step limit: no step the step test would
-			// reject decreases f. Not so when an analytic gradient is
-			// contradicted by f rising in proportion to the step (see
-			// gaussianBFGSCentralRiseTrend, which never reports that for differences).
-			out.status = GaussianBFGSCentralStepTiny
-			if found.rising {
-				out.status = GaussianBFGSCentralNoDecrease
+			return best.ending(GaussianBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+		case gaussianBFGSCentralSearchDiverged:
+			return best.ending(GaussianBFGSCentralDiverged, out.iterations, out.evaluations)
+		case gaussianBFGSCentralSearchExhausted, gaussianBFGSCentralSearchTiny:
+			// No acceptable step. When an analytic gradient predicted a
+			// fall that f contradicted in proportion to the step, the
+			// gradient is probably wrong (see gaussianBFGSCentralRiseTrend, which never
+			// reports that for differences); otherwise the search stalled
+			// below the step limit, or ran out of trials.
+			end := GaussianBFGSCentralNoAcceptableStep
+			switch {
+			case found.rising:
+				end = GaussianBFGSCentralNoDecrease
+			case found.end == gaussianBFGSCentralSearchTiny && canSettle:
+				calls, ok := gaussianBFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+				out.evaluations += calls
+				if !ok {
+					return best.ending(GaussianBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+				}
+				if !gaussianBFGSCentralFiniteVec(&g) {
+					return best.ending(GaussianBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
+				}
+				stalled, confirmed = true, true
+				continue
+			case found.end == gaussianBFGSCentralSearchTiny:
+				end = GaussianBFGSCentralStalled
 			}
-			return out
+			return best.ending(end, out.iterations, out.evaluations)
 		}
 		if !gaussianBFGSCentralFiniteVec(&xt) {
-			out.status = GaussianBFGSCentralNoAcceptableStep // the accepted trial overflowed x
-			return out
+			return best.ending(GaussianBFGSCentralNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
 		}
 		if !found.gradient {
 			if out.evaluations+gaussianBFGSCentralDerivativeCost > lim.Evaluations {
-				if found.value < fx { // keep a better point even without its gradient
-					out.x, out.f = xt, found.value
+				if found.value < best.f { // keep a better point even without its gradient
+					best.x, best.f, best.gradient = xt, found.value, math.NaN()
 					out.iterations++
 				}
-				return out
+				return best.ending(GaussianBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			gaussianBFGSCentralDerivative(&xt, found.value, &gt)
+			gaussianBFGSCentralDerivative(&xt, found.value, &gt, &diffs)
 			out.evaluations += gaussianBFGSCentralDerivativeCost
 		}
 		out.iterations++
 		gaussianBFGSCentralDifference(&s, &xt, &x)
 		gaussianBFGSCentralDifference(&y, &gt, &g)
-		x, fx, g = xt, found.value, gt
-		out.x, out.f = x, fx
+		if found.value > fx && found.value > start {
+			rises++
+		} else {
+			rises = 0
+		}
+		x, fx, g, confirmed = xt, found.value, gt, false
+		out.x, out.f, out.gradient = x, fx, math.NaN()
 		t, slope = found.step, now
 
 		if !gaussianBFGSCentralFiniteVec(&g) {
-			out.status = GaussianBFGSCentralNonFiniteGradient
-			return out
+			if out.f < best.f {
+				best = out
+			}
+			return best.ending(GaussianBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
 		}
 	}
 }
@@ -242,11 +342,19 @@ func gaussianBFGSCentralMinimize(x0 [3]float64, lim GaussianBFGSCentralLimits) g
 // gaussianBFGSCentralOutcome is the kernel's report; the generated entry point copies it into
 // the spec's result type.
 type gaussianBFGSCentralOutcome struct {
-	x           [3]float64
-	f           float64
-	iterations  int
-	evaluations int
-	status      GaussianBFGSCentralStatus
+	x             [3]float64
+	f             float64
+	gradient      float64 // the stop test's measure at x, error bound included; NaN when not known
+	gradientLimit float64 // the limit that measure was held to
+	iterations    int
+	evaluations   int
+	status        GaussianBFGSCentralStatus
+}
+
+// ending is the best point seen, reported with the run's end and counts.
+func (o gaussianBFGSCentralOutcome) ending(end GaussianBFGSCentralStatus, iterations, evaluations int) gaussianBFGSCentralOutcome {
+	o.status, o.iterations, o.evaluations = end, iterations, evaluations
+	return o
 }
 
 // gaussianBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
@@ -271,26 +379,81 @@ func gaussianBFGSCentralFiniteVec(x *[3]float64) bool {
 	return true
 }
 
-// gaussianBFGSCentralDerivative approximates the gradient by central differences,
+// gaussianBFGSCentralDifferences is what the difference gradients learn from the objective
+// at the start: for each coordinate i, the interval as a multiple of
+// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
+// forward differences, |f‴| for central ones). The analytic gradient
+// leaves it unused.
+type gaussianBFGSCentralDifferences struct {
+	ratio     [3]float64
+	curvature [3]float64
+	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see gaussianBFGSCentralRoundingFloor)
+}
+
+// gaussianBFGSCentralCalibrate chooses each central-difference interval from the
+// third derivative along e_i, estimated at x with four probes at ±h̄ and
+// ±2h̄, h̄ = u^(1/4)·s, s = max(1, |x_i|):
 //
-//	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),  h_i = ∛u · max(1, |x_i|),
+//	f‴ ≈ (f(x + 2h̄eᵢ) − 2f(x + h̄eᵢ) + 2f(x − h̄eᵢ) − f(x − 2h̄eᵢ)) / (2h̄³),
+//	h_i  = ∛(3ε_A / |f‴|)
 //
-// with error O(h²) (Nocedal & Wright 2006, eq. 8.7 and §8.1). It costs
-// 2·dim objective calls; fx is not needed.
-func gaussianBFGSCentralDerivative(x *[3]float64, fx float64, g *[3]float64) {
+// the interval that minimizes the truncation error h²|f‴|/6 plus the
+// rounding error ε_A/h of a central difference (Nocedal & Wright 2006,
+// §8.1, with the third-derivative estimate of the forward interval's
+// procedure of Gill, Murray, Saunders & Wright 1983 carried one order
+// up), with ε_A from gaussianBFGSCentralNoiseLevel and the probes' slopes. An estimate below
+// its rounding noise 3ε_A/h̄³ is replaced by that noise, and h_i is kept
+// within [64u·s, h̄]. It costs four objective calls per unknown.
+func gaussianBFGSCentralCalibrate(x *[3]float64, fx float64, diffs *gaussianBFGSCentralDifferences, budget int) (int, bool) {
 	probe := *x
+	var slope [3]float64
+	scale := gaussianBFGSCentralAbs(fx)
+	quarter := gaussianBFGSCentralSquareRoot(gaussianBFGSCentralSquareRoot(gaussianBFGSCentralUnitRoundoff)) // u^(1/4)
 	for i := range probe {
+		if 4*(i+1) > budget {
+			return 4 * i, false
+		}
 		xi := probe[i]
-		h := gaussianBFGSCentralCentralScale * gaussianBFGSCentralLarger(1, gaussianBFGSCentralAbs(xi)) // N&W §8.1: h = ∛u·max(1,|x_i|)
-		up := xi + h
-		down := xi - h
-		probe[i] = up
-		fUp := Gaussian(&probe)
-		probe[i] = down
-		fDown := Gaussian(&probe)
-		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+		bar := quarter * gaussianBFGSCentralLarger(1, gaussianBFGSCentralAbs(xi))
+		var f [4]float64
+		for k, m := range [4]float64{2, 1, -1, -2} {
+			probe[i], _ = gaussianBFGSCentralProbeStep(xi, m*bar)
+			f[k] = Gaussian(&probe)
+			scale = gaussianBFGSCentralLarger(scale, gaussianBFGSCentralMagnitude(f[k]))
+		}
 		probe[i] = xi
+		if gaussianBFGSCentralFinite(f[0]) && gaussianBFGSCentralFinite(f[1]) && gaussianBFGSCentralFinite(f[2]) && gaussianBFGSCentralFinite(f[3]) {
+			diffs.curvature[i] = gaussianBFGSCentralAbs(f[0]-2*f[1]+2*f[2]-f[3]) / (2 * bar * bar * bar)
+			diffs.second[i] = gaussianBFGSCentralAbs(f[1]-2*fx+f[2]) / (bar * bar)
+			slope[i] = (f[1] - f[2]) / (2 * bar)
+		}
 	}
+	noise := gaussianBFGSCentralNoiseLevel(x, scale, &slope)
+	for i := range probe {
+		s := gaussianBFGSCentralLarger(1, gaussianBFGSCentralAbs(probe[i]))
+		bar := quarter * s
+		third := gaussianBFGSCentralLarger(diffs.curvature[i], 3*noise/(bar*bar*bar))
+		h := bar
+		if third > 0 {
+			h = gaussianBFGSCentralCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+		}
+		diffs.ratio[i] = gaussianBFGSCentralClampBetween(h, 64*gaussianBFGSCentralUnitRoundoff*s, bar) / s
+		diffs.curvature[i] = third
+	}
+	return 4 * len(probe), true
+}
+
+// gaussianBFGSCentralAbs returns |v|.
+func gaussianBFGSCentralAbs(v float64) float64 {
+	if v < 0 {
+		return -v
+	}
+	return v
+}
+
+// gaussianBFGSCentralSquareRoot returns √v.
+func gaussianBFGSCentralSquareRoot(v float64) float64 {
+	return math.Sqrt(v)
 }
 
 // gaussianBFGSCentralLarger returns the larger of a and b, or a NaN among them. The builtin
@@ -303,12 +466,81 @@ func gaussianBFGSCentralLarger(a, b float64) float64 {
 	return b
 }
 
-// gaussianBFGSCentralAbs returns |v|.
-func gaussianBFGSCentralAbs(v float64) float64 {
-	if v < 0 {
-		return -v
+// gaussianBFGSCentralProbeStep returns x_i moved by h, and the step actually representable.
+func gaussianBFGSCentralProbeStep(xi, h float64) (float64, float64) {
+	moved := xi + h
+	return moved, moved - xi
+}
+
+// gaussianBFGSCentralMagnitude is |v| for a finite v and 0 otherwise: a probe that fell
+// outside the objective's domain says nothing about its rounding.
+func gaussianBFGSCentralMagnitude(v float64) float64 {
+	if !gaussianBFGSCentralFinite(v) {
+		return 0
+	}
+	return gaussianBFGSCentralAbs(v)
+}
+
+// gaussianBFGSCentralNoiseLevel is the absolute error assumed in a computed value fx of the
+// objective at x, where its gradient is about g:
+//
+//	ε_A = 4u·(|fx| + Σᵢ |gᵢ·xᵢ|),
+//
+// a few roundings of the result plus the change that rounding each xᵢ by
+// a relative u makes in f, which is what an objective computed with
+// cancellation inside (y − x² in Rosenbrock's valley) shows near a zero
+// minimum, where u·|f| alone vanishes (the first-order error of
+// evaluating f at a rounded x; the factor 4 is common practice; Gill,
+// Murray, Saunders & Wright 1983 leave ε_A to the user).
+func gaussianBFGSCentralNoiseLevel(x *[3]float64, fx float64, g *[3]float64) float64 {
+	sum := gaussianBFGSCentralAbs(fx)
+	for i := range x {
+		sum += gaussianBFGSCentralAbs(g[i] * x[i])
+	}
+	return 4 * gaussianBFGSCentralUnitRoundoff * sum
+}
+
+// gaussianBFGSCentralCubeRoot returns ∛v for v ≥ 0.
+func gaussianBFGSCentralCubeRoot(v float64) float64 {
+	return math.Cbrt(v)
+}
+
+// gaussianBFGSCentralClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func gaussianBFGSCentralClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
 	}
 	return v
+}
+
+// gaussianBFGSCentralDerivative approximates the gradient by central differences,
+//
+//	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),
+//
+// with the intervals gaussianBFGSCentralCalibrate chose, h_i = ratio_i·max(1, |x_i|)
+// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls; fx is
+// not needed.
+func gaussianBFGSCentralDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *gaussianBFGSCentralDifferences) {
+	probe := *x
+	for i := range probe {
+		xi := probe[i]
+		h := diffs.ratio[i] * gaussianBFGSCentralLarger(1, gaussianBFGSCentralAbs(xi))
+		up, _ := gaussianBFGSCentralProbeStep(xi, h)
+		down, _ := gaussianBFGSCentralProbeStep(xi, -h)
+		probe[i] = up
+		fUp := Gaussian(&probe)
+		probe[i] = down
+		fDown := Gaussian(&probe)
+		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+		probe[i] = xi
+	}
 }
 
 // gaussianBFGSCentralDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
@@ -401,15 +633,67 @@ func gaussianBFGSCentralCurvatureSafe(s, y *[3]float64) bool {
 	return sy > 0 && (sy/gaussianBFGSCentralDot(s, s))*(sy/gaussianBFGSCentralDot(y, y)) > gaussianBFGSCentralUnitRoundoff
 }
 
-// gaussianBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
-func gaussianBFGSCentralMaxAbs(x *[3]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := gaussianBFGSCentralAbs(x[i]); a > m || a != a {
-			m = a
-		}
+// gaussianBFGSCentralGradientError bounds each central difference's error by twice its
+// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
+// in forwardError).
+func gaussianBFGSCentralGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *gaussianBFGSCentralDifferences) {
+	noise := gaussianBFGSCentralNoiseLevel(x, fx, g)
+	for i := range e {
+		h := diffs.ratio[i] * gaussianBFGSCentralLarger(1, gaussianBFGSCentralAbs(x[i]))
+		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
 	}
-	return m
+}
+
+// gaussianBFGSCentralGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func gaussianBFGSCentralGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
+	scale := gaussianBFGSCentralLarger(gaussianBFGSCentralAbs(fx), 1)
+	for i := range g {
+		w := gaussianBFGSCentralLarger(gaussianBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = gaussianBFGSCentralLarger(measure, (gaussianBFGSCentralAbs(g[i])+e[i])*w)
+		floor = gaussianBFGSCentralLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// gaussianBFGSCentralConfirmGradient recomputes a difference gradient at x before the run is
+// called converged there: it chooses the intervals again from the
+// curvature at x (calibrate), computes g with them and with twice them,
+// and bounds each component's error by the model (gaussianBFGSCentralGradientError) plus
+// three times the change the doubling made. That change measures what the
+// model can miss, truncation from curvature that varies and rounding
+// noise above 4u·|f|; as one sample of that noise it is tripled
+// (Richardson's idea of comparing two intervals; the factor is common
+// practice for a posteriori error estimates). It costs a calibration and two
+// gradients, and returns the calls spent and false when budget ran out
+// first.
+func gaussianBFGSCentralConfirmGradient(x *[3]float64, fx float64, g, e *[3]float64, diffs *gaussianBFGSCentralDifferences, budget int) (int, bool) {
+	calls, ok := gaussianBFGSCentralCalibrate(x, fx, diffs, budget)
+	if !ok || calls+2*gaussianBFGSCentralDerivativeCost > budget {
+		return calls, false
+	}
+	wide := *diffs
+	for i := range wide.ratio {
+		wide.ratio[i] *= 2
+	}
+	var doubled [3]float64
+	gaussianBFGSCentralDerivative(x, fx, g, diffs)
+	gaussianBFGSCentralDerivative(x, fx, &doubled, &wide)
+	gaussianBFGSCentralGradientError(x, fx, g, e, diffs)
+	for i := range e {
+		e[i] += 3 * gaussianBFGSCentralAbs(g[i]-doubled[i])
+	}
+	return calls + 2*gaussianBFGSCentralDerivativeCost, true
 }
 
 // gaussianBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
@@ -422,6 +706,43 @@ func gaussianBFGSCentralStepWithin(s, x *[3]float64, tol float64) bool {
 		}
 	}
 	return true
+}
+
+// gaussianBFGSCentralSettle prepares the final verdict at a stall: with differences it
+// confirms the gradient (gaussianBFGSCentralConfirmGradient), then it adds to each error
+// bound the rounding floor of x (gaussianBFGSCentralRoundingFloor). It returns the objective
+// calls spent and false when budget ran out first.
+func gaussianBFGSCentralSettle(x *[3]float64, fx float64, g, e *[3]float64, diffs *gaussianBFGSCentralDifferences, budget int) (int, bool) {
+	calls := 0
+	if gaussianBFGSCentralDerivativeCost > 0 {
+		spent, ok := gaussianBFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
+	}
+	gaussianBFGSCentralRoundingFloor(x, g, e, diffs)
+	return calls, true
+}
+
+// gaussianBFGSCentralRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
+// that moving xᵢ by a few of its rounding units makes in gᵢ:
+// where no step the step test resolves decreases f, a gradient that small
+// is zero to the rounding of x (the resolution of x in floating point,
+// common practice). It is added only at a stall, so a gradient far above
+// it still ends the run as stalled.
+func gaussianBFGSCentralRoundingFloor(x, g, e *[3]float64, diffs *gaussianBFGSCentralDifferences) {
+	var h [3]float64
+	gaussianBFGSCentralDiagonalCurvature(x, g, diffs, &h)
+	for i := range e {
+		e[i] += 4 * gaussianBFGSCentralUnitRoundoff * gaussianBFGSCentralAbs(x[i]) * h[i]
+	}
+}
+
+// gaussianBFGSCentralDiagonalCurvature takes each |f″| along eᵢ from the differences' last
+// calibration, which gaussianBFGSCentralConfirmGradient has just made at x.
+func gaussianBFGSCentralDiagonalCurvature(x, g *[3]float64, diffs *gaussianBFGSCentralDifferences, h *[3]float64) {
+	*h = diffs.second
 }
 
 // gaussianBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
@@ -460,7 +781,7 @@ func gaussianBFGSCentralTinyStep(x, d *[3]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func gaussianBFGSCentralLineSearch(x *[3]float64, fx float64, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64) gaussianBFGSCentralLineResult {
+func gaussianBFGSCentralLineSearch(x *[3]float64, fx float64, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *gaussianBFGSCentralDifferences) gaussianBFGSCentralLineResult {
 	low := gaussianBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high gaussianBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                                   // ∇f at low, kept for accepting low from a collapsed bracket
@@ -492,7 +813,7 @@ func gaussianBFGSCentralLineSearch(x *[3]float64, fx float64, d *[3]float64, slo
 			if calls+gaussianBFGSCentralDerivativeCost > budget {
 				return gaussianBFGSCentralLineResult{calls: calls, end: gaussianBFGSCentralSearchOutOfBudget}
 			}
-			gaussianBFGSCentralDerivative(xt, current.value, gt)
+			gaussianBFGSCentralDerivative(xt, current.value, gt, diffs)
 			calls += gaussianBFGSCentralDerivativeCost
 			current.slope, current.hasSlope = gaussianBFGSCentralDot(gt, d), true
 			switch {
@@ -517,7 +838,7 @@ func gaussianBFGSCentralLineSearch(x *[3]float64, fx float64, d *[3]float64, slo
 	if low.step > 0 {
 		return gaussianBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
 	}
-	return gaussianBFGSCentralLineResult{calls: calls, end: gaussianBFGSCentralSearchExhausted}
+	return gaussianBFGSCentralLineResult{calls: calls, rising: trend.contradicts(), end: gaussianBFGSCentralSearchExhausted}
 }
 
 // gaussianBFGSCentralLineResult is what a line search reports to the kernel.
@@ -618,6 +939,7 @@ const (
 	gaussianBFGSCentralSearchExhausted                                       // gaussianBFGSCentralStepTrials trials met none
 	gaussianBFGSCentralSearchOutOfBudget                                     // the evaluation cap came first
 	gaussianBFGSCentralSearchTiny                                            // every step longer than tiny failed to decrease f
+	gaussianBFGSCentralSearchDiverged                                        // a fixed step's value overflowed
 )
 
 // gaussianBFGSCentralAcceptLow ends a Wolfe search with its best trial, which met sufficient
@@ -683,26 +1005,6 @@ func gaussianBFGSCentralModelMinimizer(a, b *gaussianBFGSCentralLinePoint) (t fl
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, gaussianBFGSCentralFinite(t)
-}
-
-// gaussianBFGSCentralSquareRoot returns √v.
-func gaussianBFGSCentralSquareRoot(v float64) float64 {
-	return math.Sqrt(v)
-}
-
-// gaussianBFGSCentralClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func gaussianBFGSCentralClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // gaussianBFGSCentralExpandTrial picks a larger trial after current met sufficient decrease

@@ -8,10 +8,10 @@ import "math"
 type HelicalValleyBFGSAnalyticStatus uint8
 
 const (
-	// HelicalValleyBFGSAnalyticGradientSmall: the largest gradient component fell to the gradient limit: converged.
+	// HelicalValleyBFGSAnalyticGradientSmall: the gradient test holds at X: its measure, with the differences' error bound when they are used, is at most the gradient limit: converged.
 	HelicalValleyBFGSAnalyticGradientSmall HelicalValleyBFGSAnalyticStatus = iota + 1
-	// HelicalValleyBFGSAnalyticStepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f: converged.
-	HelicalValleyBFGSAnalyticStepTiny
+	// HelicalValleyBFGSAnalyticStalled: the step test ended the run, or no step longer than the step limit decreased f, while the gradient test still fails: X is as far as the run could get, not a verified minimizer.
+	HelicalValleyBFGSAnalyticStalled
 	// HelicalValleyBFGSAnalyticOutOfIterations: the iteration limit came first.
 	HelicalValleyBFGSAnalyticOutOfIterations
 	// HelicalValleyBFGSAnalyticOutOfEvaluations: the next objective call would have exceeded the evaluation cap.
@@ -22,8 +22,10 @@ const (
 	HelicalValleyBFGSAnalyticNonFiniteStart
 	// HelicalValleyBFGSAnalyticNonFiniteGradient: a gradient component became NaN or ±Inf.
 	HelicalValleyBFGSAnalyticNonFiniteGradient
-	// HelicalValleyBFGSAnalyticNoDecrease: no step longer than the step limit decreased f, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test).
+	// HelicalValleyBFGSAnalyticNoDecrease: the line search found no acceptable step, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test).
 	HelicalValleyBFGSAnalyticNoDecrease
+	// HelicalValleyBFGSAnalyticDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
+	HelicalValleyBFGSAnalyticDiverged
 )
 
 // String describes the status in a few words.
@@ -31,8 +33,8 @@ func (s HelicalValleyBFGSAnalyticStatus) String() string {
 	switch s {
 	case HelicalValleyBFGSAnalyticGradientSmall:
 		return "gradient small"
-	case HelicalValleyBFGSAnalyticStepTiny:
-		return "step tiny"
+	case HelicalValleyBFGSAnalyticStalled:
+		return "stalled"
 	case HelicalValleyBFGSAnalyticOutOfIterations:
 		return "out of iterations"
 	case HelicalValleyBFGSAnalyticOutOfEvaluations:
@@ -45,28 +47,32 @@ func (s HelicalValleyBFGSAnalyticStatus) String() string {
 		return "non-finite gradient"
 	case HelicalValleyBFGSAnalyticNoDecrease:
 		return "no decrease"
+	case HelicalValleyBFGSAnalyticDiverged:
+		return "diverged"
 	default:
 		return "unknown status"
 	}
 }
 
-// Converged reports whether a convergence test, on the gradient or on the step, ended the run; limits, line-search failure and non-finite values are not convergence.
+// Converged reports whether the gradient test holds at X (Gradient ≤ GradientLimit in the result): only then is X a verified stationary point; a stall, the limits, line-search failure and non-finite values are not convergence.
 func (s HelicalValleyBFGSAnalyticStatus) Converged() bool {
-	return s == HelicalValleyBFGSAnalyticGradientSmall || s == HelicalValleyBFGSAnalyticStepTiny
+	return s == HelicalValleyBFGSAnalyticGradientSmall
 }
 
 // HelicalValleyBFGSAnalyticResult is where HelicalValleyBFGSAnalytic stopped and why.
 type HelicalValleyBFGSAnalyticResult struct {
-	X           [3]float64                      // the last accepted point, the best one found
-	F           float64                         // the objective at X
-	Iterations  int                             // accepted steps
-	Evaluations int                             // objective calls, finite differences included
-	Status      HelicalValleyBFGSAnalyticStatus // why the run stopped; check Status.Converged()
+	X             [3]float64                      // where the gradient test held, when converged; else the lowest point seen
+	F             float64                         // the objective at X
+	Gradient      float64                         // the gradient test's measure at X, the differences' error bound included; NaN when the run ended before the gradient at X was known
+	GradientLimit float64                         // the limit Gradient was held to: Limits.Gradient, raised with differences to ten times the measure of their error bound; converged runs have Gradient ≤ GradientLimit
+	Iterations    int                             // accepted steps
+	Evaluations   int                             // objective calls, finite differences included
+	Status        HelicalValleyBFGSAnalyticStatus // why the run stopped; check Status.Converged()
 }
 
 // HelicalValleyBFGSAnalyticLimits are the stop limits of one run. Pass them to HelicalValleyBFGSAnalyticWithLimits to change them at run time; HelicalValleyBFGSAnalyticDefaultLimits returns the spec's.
 type HelicalValleyBFGSAnalyticLimits struct {
-	Gradient    float64 // stop when the largest |∂f/∂xᵢ| is at most this
+	Gradient    float64 // stop, converged, when the gradient test's measure is at most this (with differences, at most ten times the measure of their error bound where that is larger)
 	Step        float64 // stop when every |Δxᵢ| is at most this·(|xᵢ| + 1)
 	Iterations  int     // most accepted steps
 	Evaluations int     // hard cap on objective calls, finite differences included; never exceeded
@@ -87,10 +93,11 @@ func HelicalValleyBFGSAnalyticDefaultLimits() HelicalValleyBFGSAnalyticLimits {
 // Direction bfgs: BFGS quasi-Newton with a dense inverse-Hessian approximation (dim² numbers).
 // Step rule wolfe: bracket and zoom until sufficient decrease and the curvature condition hold.
 // Derivative analytic: the user's own gradient function (spec key `gradient`); costs no objective calls.
+// Gradient test relative: max over i of (|∂f/∂xᵢ| + eᵢ)·max(|xᵢ|, 1)/max(|f(x)|, 1), eᵢ the error bound of differences (0 for an analytic gradient).
 // Constants: initial 1.0, c1 0.0001, c2 0.9, at most 48 trials per line search.
-// Default stop: largest gradient component ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
+// Default stop: gradient measure ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
 //
-// Worst case: 200000 objective calls (the evaluation cap; the iteration limit alone would allow 240001). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
+// Worst case: 200000 objective calls (the evaluation cap; the iteration limit alone would allow 240049). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
 func HelicalValleyBFGSAnalytic(x0 [3]float64) HelicalValleyBFGSAnalyticResult {
 	return HelicalValleyBFGSAnalyticWithLimits(x0, HelicalValleyBFGSAnalyticDefaultLimits())
@@ -100,11 +107,13 @@ func HelicalValleyBFGSAnalytic(x0 [3]float64) HelicalValleyBFGSAnalyticResult {
 func HelicalValleyBFGSAnalyticWithLimits(x0 [3]float64, limits HelicalValleyBFGSAnalyticLimits) HelicalValleyBFGSAnalyticResult {
 	out := helicalValleyBFGSAnalyticMinimize(x0, limits)
 	return HelicalValleyBFGSAnalyticResult{
-		Evaluations: out.evaluations,
-		F:           out.f,
-		Iterations:  out.iterations,
-		Status:      out.status,
-		X:           out.x,
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
 	}
 }
 
@@ -121,22 +130,36 @@ const (
 
 // helicalValleyBFGSAnalyticMinimize runs the descent loop from x0 within lim:
 //
-//  1. stop when the largest gradient component is at most lim.Gradient;
+//  1. stop, converged, when the gradient measure (helicalValleyBFGSAnalyticGradientMeasure, error
+//     bound of differences included) is at most the limit: lim.Gradient,
+//     or three times the measure of the differences' error bound when that is
+//     larger, so that the limit can be met (the floor the test can see);
+//     differences confirm it first (helicalValleyBFGSAnalyticConfirmGradient);
 //  2. stop after lim.Iterations accepted steps;
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
-//  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged,
-//     unless f contradicts an analytic gradient: no decrease);
+//  4. search along d; stop when no trial is acceptable or only steps
+//     shorter than the step limit are left to try: stalled, or no
+//     decrease when f contradicts an analytic gradient (see helicalValleyBFGSAnalyticRiseTrend);
 //  5. move, refresh the gradient, let the direction learn from the step;
-//  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
+//  6. stop, stalled, when every |Δx_i| is at most lim.Step·(|x_i| + 1) while
+//     the gradient test still fails. At a stall the run settles first
+//     (settle): the error bound gains the rounding floor of x, with
+//     differences confirmed, and the limit rises to ten times the larger
+//     of lim.Gradient and the bound's measure; a gradient within that is
+//     as small as this point can show, and the run is converged with that
+//     limit, which it reports.
 //
-// Before every objective call it checks that lim.Evaluations leaves room
-// for it, so the cap is never exceeded. A NaN or ±Inf at the start or in a
+// Only step 1 is convergence: the first-order test holds at X. Before
+// every objective call it checks that lim.Evaluations leaves room for it,
+// so the cap is never exceeded. A NaN or ±Inf at the start or in a
 // gradient ends the run with its own status; a non-finite trial value is
-// rejected by the line search like any failed trial.
+// rejected by the line search like any failed trial. X is the best point
+// seen unless the run converged, which it did at X. A fixed step whose
+// value overflows, or that raised f above f(x0) at eight steps in a row,
+// ends the run as diverged (common practice for a divergence test).
 func helicalValleyBFGSAnalyticMinimize(x0 [3]float64, lim HelicalValleyBFGSAnalyticLimits) helicalValleyBFGSAnalyticOutcome {
-	out := helicalValleyBFGSAnalyticOutcome{x: x0, status: HelicalValleyBFGSAnalyticOutOfEvaluations}
+	out := helicalValleyBFGSAnalyticOutcome{x: x0, status: HelicalValleyBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
@@ -147,11 +170,14 @@ func helicalValleyBFGSAnalyticMinimize(x0 [3]float64, lim HelicalValleyBFGSAnaly
 		out.status = HelicalValleyBFGSAnalyticNonFiniteStart
 		return out
 	}
-	if out.evaluations+helicalValleyBFGSAnalyticDerivativeCost > lim.Evaluations {
+	var diffs helicalValleyBFGSAnalyticDifferences
+	calls, ok := helicalValleyBFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
+	out.evaluations += calls
+	if !ok || out.evaluations+helicalValleyBFGSAnalyticDerivativeCost > lim.Evaluations {
 		return out
 	}
-	var g [3]float64
-	helicalValleyBFGSAnalyticDerivative(&x, fx, &g)
+	var g, e [3]float64
+	helicalValleyBFGSAnalyticDerivative(&x, fx, &g, &diffs)
 	out.evaluations += helicalValleyBFGSAnalyticDerivativeCost
 
 	if !helicalValleyBFGSAnalyticFiniteVec(&g) {
@@ -162,21 +188,76 @@ func helicalValleyBFGSAnalyticMinimize(x0 [3]float64, lim HelicalValleyBFGSAnaly
 	dir.reset()
 	var d, xt, gt, s, y [3]float64
 	t, slope := float64(helicalValleyBFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
+	best := out                                                           // the lowest point seen, for runs that end unconverged
+	start, rises := fx, 0                                                 // f(x0), and consecutive accepted steps that raised f above it
+	confirmed := false                                                    // whether g and e at x come from helicalValleyBFGSAnalyticConfirmGradient
+	stalled := false                                                      // whether the run can make no more progress at x
+	retried := -1                                                         // the iteration whose stall was retried with recalibrated differences
 	for {
-		if helicalValleyBFGSAnalyticMaxAbs(&g) <= lim.Gradient {
+		if !confirmed {
+			helicalValleyBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
+		}
+		measure, floor := helicalValleyBFGSAnalyticGradientMeasure(&g, &e, &x, fx)
+		out.gradient, out.gradientLimit = measure, helicalValleyBFGSAnalyticLarger(lim.Gradient, 3*floor)
+		if stalled {
+			// No step can make progress here: the gradient is as small as
+			// this point shows it, within ten times the limit or the floor.
+			out.gradientLimit = 10 * helicalValleyBFGSAnalyticLarger(lim.Gradient, floor)
+		}
+		if out.f <= best.f {
+			best = out
+		}
+		if measure <= out.gradientLimit && (helicalValleyBFGSAnalyticDerivativeCost == 0 || confirmed) {
 			out.status = HelicalValleyBFGSAnalyticGradientSmall
 			return out
 		}
-		if out.iterations > 0 {
+		if measure <= out.gradientLimit {
+			// Differences pass the test: confirm it with intervals chosen
+			// here and an error measured rather than modelled.
+			calls, ok := helicalValleyBFGSAnalyticConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(HelicalValleyBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !helicalValleyBFGSAnalyticFiniteVec(&g) {
+				return best.ending(HelicalValleyBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			confirmed = true
+			continue
+		}
+		if stalled {
+			// Settled and still above the limit: stalled, unless
+			// differences, whose intervals were just chosen here, can
+			// search once more with the better gradient.
+			if helicalValleyBFGSAnalyticDerivativeCost == 0 {
+				return best.ending(HelicalValleyBFGSAnalyticStalled, out.iterations, out.evaluations)
+			}
+			stalled, retried = false, out.iterations
+		}
+		// At a stall, settle first: the run is converged if the gradient
+		// is zero to the rounding of x (and, with differences, to their
+		// accuracy, confirmed); see settle.
+		canSettle := retried != out.iterations
+		if out.iterations > 0 && canSettle {
 			if helicalValleyBFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				out.status = HelicalValleyBFGSAnalyticStepTiny
-				return out
+				calls, ok := helicalValleyBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+				out.evaluations += calls
+				if !ok {
+					return best.ending(HelicalValleyBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+				}
+				if !helicalValleyBFGSAnalyticFiniteVec(&g) {
+					return best.ending(HelicalValleyBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+				}
+				stalled, confirmed = true, true
+				continue
+			}
+			if rises >= 8 {
+				return best.ending(HelicalValleyBFGSAnalyticDiverged, out.iterations, out.evaluations)
 			}
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
-			out.status = HelicalValleyBFGSAnalyticOutOfIterations
-			return out
+			return best.ending(HelicalValleyBFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
 		}
 		dir.compute(&g, &d)
 		now := helicalValleyBFGSAnalyticDot(&g, &d)
@@ -190,50 +271,70 @@ func helicalValleyBFGSAnalyticMinimize(x0 [3]float64, lim HelicalValleyBFGSAnaly
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := helicalValleyBFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := helicalValleyBFGSAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt)
+		found := helicalValleyBFGSAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case helicalValleyBFGSAnalyticSearchOutOfBudget:
-			return out
-		case helicalValleyBFGSAnalyticSearchExhausted:
-			out.status = HelicalValleyBFGSAnalyticNoAcceptableStep
-			return out
-		case helicalValleyBFGSAnalyticSearchTiny:
-			// Converged to the step limit: no step the step test would
-			// reject decreases f. Not so when an analytic gradient is
-			// contradicted by f rising in proportion to the step (see
-			// helicalValleyBFGSAnalyticRiseTrend, which never reports that for differences).
-			out.status = HelicalValleyBFGSAnalyticStepTiny
-			if found.rising {
-				out.status = HelicalValleyBFGSAnalyticNoDecrease
+			return best.ending(HelicalValleyBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+		case helicalValleyBFGSAnalyticSearchDiverged:
+			return best.ending(HelicalValleyBFGSAnalyticDiverged, out.iterations, out.evaluations)
+		case helicalValleyBFGSAnalyticSearchExhausted, helicalValleyBFGSAnalyticSearchTiny:
+			// No acceptable step. When an analytic gradient predicted a
+			// fall that f contradicted in proportion to the step, the
+			// gradient is probably wrong (see helicalValleyBFGSAnalyticRiseTrend, which never
+			// reports that for differences); otherwise the search stalled
+			// below the step limit, or ran out of trials.
+			end := HelicalValleyBFGSAnalyticNoAcceptableStep
+			switch {
+			case found.rising:
+				end = HelicalValleyBFGSAnalyticNoDecrease
+			case found.end == helicalValleyBFGSAnalyticSearchTiny && canSettle:
+				calls, ok := helicalValleyBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+				out.evaluations += calls
+				if !ok {
+					return best.ending(HelicalValleyBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+				}
+				if !helicalValleyBFGSAnalyticFiniteVec(&g) {
+					return best.ending(HelicalValleyBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+				}
+				stalled, confirmed = true, true
+				continue
+			case found.end == helicalValleyBFGSAnalyticSearchTiny:
+				end = HelicalValleyBFGSAnalyticStalled
 			}
-			return out
+			return best.ending(end, out.iterations, out.evaluations)
 		}
 		if !helicalValleyBFGSAnalyticFiniteVec(&xt) {
-			out.status = HelicalValleyBFGSAnalyticNoAcceptableStep // the accepted trial overflowed x
-			return out
+			return best.ending(HelicalValleyBFGSAnalyticNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
 		}
 		if !found.gradient {
 			if out.evaluations+helicalValleyBFGSAnalyticDerivativeCost > lim.Evaluations {
-				if found.value < fx { // keep a better point even without its gradient
-					out.x, out.f = xt, found.value
+				if found.value < best.f { // keep a better point even without its gradient
+					best.x, best.f, best.gradient = xt, found.value, math.NaN()
 					out.iterations++
 				}
-				return out
+				return best.ending(HelicalValleyBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			helicalValleyBFGSAnalyticDerivative(&xt, found.value, &gt)
+			helicalValleyBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
 			out.evaluations += helicalValleyBFGSAnalyticDerivativeCost
 		}
 		out.iterations++
 		helicalValleyBFGSAnalyticDifference(&s, &xt, &x)
 		helicalValleyBFGSAnalyticDifference(&y, &gt, &g)
-		x, fx, g = xt, found.value, gt
-		out.x, out.f = x, fx
+		if found.value > fx && found.value > start {
+			rises++
+		} else {
+			rises = 0
+		}
+		x, fx, g, confirmed = xt, found.value, gt, false
+		out.x, out.f, out.gradient = x, fx, math.NaN()
 		t, slope = found.step, now
 
 		if !helicalValleyBFGSAnalyticFiniteVec(&g) {
-			out.status = HelicalValleyBFGSAnalyticNonFiniteGradient
-			return out
+			if out.f < best.f {
+				best = out
+			}
+			return best.ending(HelicalValleyBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
 		}
 	}
 }
@@ -241,11 +342,19 @@ func helicalValleyBFGSAnalyticMinimize(x0 [3]float64, lim HelicalValleyBFGSAnaly
 // helicalValleyBFGSAnalyticOutcome is the kernel's report; the generated entry point copies it into
 // the spec's result type.
 type helicalValleyBFGSAnalyticOutcome struct {
-	x           [3]float64
-	f           float64
-	iterations  int
-	evaluations int
-	status      HelicalValleyBFGSAnalyticStatus
+	x             [3]float64
+	f             float64
+	gradient      float64 // the stop test's measure at x, error bound included; NaN when not known
+	gradientLimit float64 // the limit that measure was held to
+	iterations    int
+	evaluations   int
+	status        HelicalValleyBFGSAnalyticStatus
+}
+
+// ending is the best point seen, reported with the run's end and counts.
+func (o helicalValleyBFGSAnalyticOutcome) ending(end HelicalValleyBFGSAnalyticStatus, iterations, evaluations int) helicalValleyBFGSAnalyticOutcome {
+	o.status, o.iterations, o.evaluations = end, iterations, evaluations
+	return o
 }
 
 // helicalValleyBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
@@ -270,8 +379,24 @@ func helicalValleyBFGSAnalyticFiniteVec(x *[3]float64) bool {
 	return true
 }
 
+// helicalValleyBFGSAnalyticDifferences is what the difference gradients learn from the objective
+// at the start: for each coordinate i, the interval as a multiple of
+// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
+// forward differences, |f‴| for central ones). The analytic gradient
+// leaves it unused.
+type helicalValleyBFGSAnalyticDifferences struct {
+	ratio     [3]float64
+	curvature [3]float64
+	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see helicalValleyBFGSAnalyticRoundingFloor)
+}
+
+// helicalValleyBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
+func helicalValleyBFGSAnalyticCalibrate(x *[3]float64, fx float64, diffs *helicalValleyBFGSAnalyticDifferences, budget int) (int, bool) {
+	return 0, true
+}
+
 // helicalValleyBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func helicalValleyBFGSAnalyticDerivative(x *[3]float64, fx float64, g *[3]float64) {
+func helicalValleyBFGSAnalyticDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *helicalValleyBFGSAnalyticDifferences) {
 	HelicalValleyGrad(x, g)
 }
 
@@ -365,15 +490,43 @@ func helicalValleyBFGSAnalyticCurvatureSafe(s, y *[3]float64) bool {
 	return sy > 0 && (sy/helicalValleyBFGSAnalyticDot(s, s))*(sy/helicalValleyBFGSAnalyticDot(y, y)) > helicalValleyBFGSAnalyticUnitRoundoff
 }
 
-// helicalValleyBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
-func helicalValleyBFGSAnalyticMaxAbs(x *[3]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := helicalValleyBFGSAnalyticAbs(x[i]); a > m || a != a {
-			m = a
-		}
+// helicalValleyBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func helicalValleyBFGSAnalyticGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *helicalValleyBFGSAnalyticDifferences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return m
+}
+
+// helicalValleyBFGSAnalyticGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func helicalValleyBFGSAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
+	scale := helicalValleyBFGSAnalyticLarger(helicalValleyBFGSAnalyticAbs(fx), 1)
+	for i := range g {
+		w := helicalValleyBFGSAnalyticLarger(helicalValleyBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = helicalValleyBFGSAnalyticLarger(measure, (helicalValleyBFGSAnalyticAbs(g[i])+e[i])*w)
+		floor = helicalValleyBFGSAnalyticLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// helicalValleyBFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func helicalValleyBFGSAnalyticLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
 }
 
 // helicalValleyBFGSAnalyticAbs returns |v|.
@@ -382,6 +535,36 @@ func helicalValleyBFGSAnalyticAbs(v float64) float64 {
 		return -v
 	}
 	return v
+}
+
+// helicalValleyBFGSAnalyticConfirmGradient recomputes a difference gradient at x before the run is
+// called converged there: it chooses the intervals again from the
+// curvature at x (calibrate), computes g with them and with twice them,
+// and bounds each component's error by the model (helicalValleyBFGSAnalyticGradientError) plus
+// three times the change the doubling made. That change measures what the
+// model can miss, truncation from curvature that varies and rounding
+// noise above 4u·|f|; as one sample of that noise it is tripled
+// (Richardson's idea of comparing two intervals; the factor is common
+// practice for a posteriori error estimates). It costs a calibration and two
+// gradients, and returns the calls spent and false when budget ran out
+// first.
+func helicalValleyBFGSAnalyticConfirmGradient(x *[3]float64, fx float64, g, e *[3]float64, diffs *helicalValleyBFGSAnalyticDifferences, budget int) (int, bool) {
+	calls, ok := helicalValleyBFGSAnalyticCalibrate(x, fx, diffs, budget)
+	if !ok || calls+2*helicalValleyBFGSAnalyticDerivativeCost > budget {
+		return calls, false
+	}
+	wide := *diffs
+	for i := range wide.ratio {
+		wide.ratio[i] *= 2
+	}
+	var doubled [3]float64
+	helicalValleyBFGSAnalyticDerivative(x, fx, g, diffs)
+	helicalValleyBFGSAnalyticDerivative(x, fx, &doubled, &wide)
+	helicalValleyBFGSAnalyticGradientError(x, fx, g, e, diffs)
+	for i := range e {
+		e[i] += 3 * helicalValleyBFGSAnalyticAbs(g[i]-doubled[i])
+	}
+	return calls + 2*helicalValleyBFGSAnalyticDerivativeCost, true
 }
 
 // helicalValleyBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
@@ -394,6 +577,65 @@ func helicalValleyBFGSAnalyticStepWithin(s, x *[3]float64, tol float64) bool {
 		}
 	}
 	return true
+}
+
+// helicalValleyBFGSAnalyticSettle prepares the final verdict at a stall: with differences it
+// confirms the gradient (helicalValleyBFGSAnalyticConfirmGradient), then it adds to each error
+// bound the rounding floor of x (helicalValleyBFGSAnalyticRoundingFloor). It returns the objective
+// calls spent and false when budget ran out first.
+func helicalValleyBFGSAnalyticSettle(x *[3]float64, fx float64, g, e *[3]float64, diffs *helicalValleyBFGSAnalyticDifferences, budget int) (int, bool) {
+	calls := 0
+	if helicalValleyBFGSAnalyticDerivativeCost > 0 {
+		spent, ok := helicalValleyBFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
+	}
+	helicalValleyBFGSAnalyticRoundingFloor(x, g, e, diffs)
+	return calls, true
+}
+
+// helicalValleyBFGSAnalyticRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
+// that moving xᵢ by a few of its rounding units makes in gᵢ:
+// where no step the step test resolves decreases f, a gradient that small
+// is zero to the rounding of x (the resolution of x in floating point,
+// common practice). It is added only at a stall, so a gradient far above
+// it still ends the run as stalled.
+func helicalValleyBFGSAnalyticRoundingFloor(x, g, e *[3]float64, diffs *helicalValleyBFGSAnalyticDifferences) {
+	var h [3]float64
+	helicalValleyBFGSAnalyticDiagonalCurvature(x, g, diffs, &h)
+	for i := range e {
+		e[i] += 4 * helicalValleyBFGSAnalyticUnitRoundoff * helicalValleyBFGSAnalyticAbs(x[i]) * h[i]
+	}
+}
+
+// helicalValleyBFGSAnalyticDiagonalCurvature estimates each |∂²f/∂xᵢ²| from the analytic gradient
+// at x + δᵢeᵢ, δᵢ = √u·max(1, |xᵢ|): dim gradient calls and no objective
+// call (a forward difference of the gradient, Nocedal & Wright 2006,
+// §8.1).
+func helicalValleyBFGSAnalyticDiagonalCurvature(x, g *[3]float64, diffs *helicalValleyBFGSAnalyticDifferences, h *[3]float64) {
+	probe := *x
+	var moved [3]float64
+	for i := range probe {
+		xi := probe[i]
+		up, delta := helicalValleyBFGSAnalyticProbeStep(xi, helicalValleyBFGSAnalyticSquareRoot(helicalValleyBFGSAnalyticUnitRoundoff)*helicalValleyBFGSAnalyticLarger(1, helicalValleyBFGSAnalyticAbs(xi)))
+		probe[i] = up
+		HelicalValleyGrad(&probe, &moved)
+		h[i] = helicalValleyBFGSAnalyticAbs(moved[i]-g[i]) / delta
+		probe[i] = xi
+	}
+}
+
+// helicalValleyBFGSAnalyticProbeStep returns x_i moved by h, and the step actually representable.
+func helicalValleyBFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
+	moved := xi + h
+	return moved, moved - xi
+}
+
+// helicalValleyBFGSAnalyticSquareRoot returns √v.
+func helicalValleyBFGSAnalyticSquareRoot(v float64) float64 {
+	return math.Sqrt(v)
 }
 
 // helicalValleyBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
@@ -432,7 +674,7 @@ func helicalValleyBFGSAnalyticTinyStep(x, d *[3]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func helicalValleyBFGSAnalyticLineSearch(x *[3]float64, fx float64, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64) helicalValleyBFGSAnalyticLineResult {
+func helicalValleyBFGSAnalyticLineSearch(x *[3]float64, fx float64, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *helicalValleyBFGSAnalyticDifferences) helicalValleyBFGSAnalyticLineResult {
 	low := helicalValleyBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high helicalValleyBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                                         // ∇f at low, kept for accepting low from a collapsed bracket
@@ -464,7 +706,7 @@ func helicalValleyBFGSAnalyticLineSearch(x *[3]float64, fx float64, d *[3]float6
 			if calls+helicalValleyBFGSAnalyticDerivativeCost > budget {
 				return helicalValleyBFGSAnalyticLineResult{calls: calls, end: helicalValleyBFGSAnalyticSearchOutOfBudget}
 			}
-			helicalValleyBFGSAnalyticDerivative(xt, current.value, gt)
+			helicalValleyBFGSAnalyticDerivative(xt, current.value, gt, diffs)
 			calls += helicalValleyBFGSAnalyticDerivativeCost
 			current.slope, current.hasSlope = helicalValleyBFGSAnalyticDot(gt, d), true
 			switch {
@@ -489,7 +731,7 @@ func helicalValleyBFGSAnalyticLineSearch(x *[3]float64, fx float64, d *[3]float6
 	if low.step > 0 {
 		return helicalValleyBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
 	}
-	return helicalValleyBFGSAnalyticLineResult{calls: calls, end: helicalValleyBFGSAnalyticSearchExhausted}
+	return helicalValleyBFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: helicalValleyBFGSAnalyticSearchExhausted}
 }
 
 // helicalValleyBFGSAnalyticLineResult is what a line search reports to the kernel.
@@ -590,6 +832,7 @@ const (
 	helicalValleyBFGSAnalyticSearchExhausted                                             // helicalValleyBFGSAnalyticStepTrials trials met none
 	helicalValleyBFGSAnalyticSearchOutOfBudget                                           // the evaluation cap came first
 	helicalValleyBFGSAnalyticSearchTiny                                                  // every step longer than tiny failed to decrease f
+	helicalValleyBFGSAnalyticSearchDiverged                                              // a fixed step's value overflowed
 )
 
 // helicalValleyBFGSAnalyticAcceptLow ends a Wolfe search with its best trial, which met sufficient
@@ -655,11 +898,6 @@ func helicalValleyBFGSAnalyticModelMinimizer(a, b *helicalValleyBFGSAnalyticLine
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, helicalValleyBFGSAnalyticFinite(t)
-}
-
-// helicalValleyBFGSAnalyticSquareRoot returns √v.
-func helicalValleyBFGSAnalyticSquareRoot(v float64) float64 {
-	return math.Sqrt(v)
 }
 
 // helicalValleyBFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in

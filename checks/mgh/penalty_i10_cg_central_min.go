@@ -8,10 +8,10 @@ import "math"
 type PenaltyI10CGCentralStatus uint8
 
 const (
-	// PenaltyI10CGCentralGradientSmall: the largest gradient component fell to the gradient limit: converged.
+	// PenaltyI10CGCentralGradientSmall: the gradient test holds at X: its measure, with the differences' error bound when they are used, is at most the gradient limit: converged.
 	PenaltyI10CGCentralGradientSmall PenaltyI10CGCentralStatus = iota + 1
-	// PenaltyI10CGCentralStepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f: converged.
-	PenaltyI10CGCentralStepTiny
+	// PenaltyI10CGCentralStalled: the step test ended the run, or no step longer than the step limit decreased f, while the gradient test still fails: X is as far as the run could get, not a verified minimizer.
+	PenaltyI10CGCentralStalled
 	// PenaltyI10CGCentralOutOfIterations: the iteration limit came first.
 	PenaltyI10CGCentralOutOfIterations
 	// PenaltyI10CGCentralOutOfEvaluations: the next objective call would have exceeded the evaluation cap.
@@ -22,8 +22,10 @@ const (
 	PenaltyI10CGCentralNonFiniteStart
 	// PenaltyI10CGCentralNonFiniteGradient: a gradient component became NaN or ±Inf.
 	PenaltyI10CGCentralNonFiniteGradient
-	// PenaltyI10CGCentralNoDecrease: no step longer than the step limit decreased f, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test).
+	// PenaltyI10CGCentralNoDecrease: the line search found no acceptable step, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test).
 	PenaltyI10CGCentralNoDecrease
+	// PenaltyI10CGCentralDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
+	PenaltyI10CGCentralDiverged
 )
 
 // String describes the status in a few words.
@@ -31,8 +33,8 @@ func (s PenaltyI10CGCentralStatus) String() string {
 	switch s {
 	case PenaltyI10CGCentralGradientSmall:
 		return "gradient small"
-	case PenaltyI10CGCentralStepTiny:
-		return "step tiny"
+	case PenaltyI10CGCentralStalled:
+		return "stalled"
 	case PenaltyI10CGCentralOutOfIterations:
 		return "out of iterations"
 	case PenaltyI10CGCentralOutOfEvaluations:
@@ -45,28 +47,32 @@ func (s PenaltyI10CGCentralStatus) String() string {
 		return "non-finite gradient"
 	case PenaltyI10CGCentralNoDecrease:
 		return "no decrease"
+	case PenaltyI10CGCentralDiverged:
+		return "diverged"
 	default:
 		return "unknown status"
 	}
 }
 
-// Converged reports whether a convergence test, on the gradient or on the step, ended the run; limits, line-search failure and non-finite values are not convergence.
+// Converged reports whether the gradient test holds at X (Gradient ≤ GradientLimit in the result): only then is X a verified stationary point; a stall, the limits, line-search failure and non-finite values are not convergence.
 func (s PenaltyI10CGCentralStatus) Converged() bool {
-	return s == PenaltyI10CGCentralGradientSmall || s == PenaltyI10CGCentralStepTiny
+	return s == PenaltyI10CGCentralGradientSmall
 }
 
 // PenaltyI10CGCentralResult is where PenaltyI10CGCentral stopped and why.
 type PenaltyI10CGCentralResult struct {
-	X           [10]float64               // the last accepted point, the best one found
-	F           float64                   // the objective at X
-	Iterations  int                       // accepted steps
-	Evaluations int                       // objective calls, finite differences included
-	Status      PenaltyI10CGCentralStatus // why the run stopped; check Status.Converged()
+	X             [10]float64               // where the gradient test held, when converged; else the lowest point seen
+	F             float64                   // the objective at X
+	Gradient      float64                   // the gradient test's measure at X, the differences' error bound included; NaN when the run ended before the gradient at X was known
+	GradientLimit float64                   // the limit Gradient was held to: Limits.Gradient, raised with differences to ten times the measure of their error bound; converged runs have Gradient ≤ GradientLimit
+	Iterations    int                       // accepted steps
+	Evaluations   int                       // objective calls, finite differences included
+	Status        PenaltyI10CGCentralStatus // why the run stopped; check Status.Converged()
 }
 
 // PenaltyI10CGCentralLimits are the stop limits of one run. Pass them to PenaltyI10CGCentralWithLimits to change them at run time; PenaltyI10CGCentralDefaultLimits returns the spec's.
 type PenaltyI10CGCentralLimits struct {
-	Gradient    float64 // stop when the largest |∂f/∂xᵢ| is at most this
+	Gradient    float64 // stop, converged, when the gradient test's measure is at most this (with differences, at most ten times the measure of their error bound where that is larger)
 	Step        float64 // stop when every |Δxᵢ| is at most this·(|xᵢ| + 1)
 	Iterations  int     // most accepted steps
 	Evaluations int     // hard cap on objective calls, finite differences included; never exceeded
@@ -86,11 +92,12 @@ func PenaltyI10CGCentralDefaultLimits() PenaltyI10CGCentralLimits {
 //
 // Direction cg: nonlinear conjugate gradients, Polak–Ribière clipped at zero (PR+), restarted every dim steps.
 // Step rule strong-wolfe: bracket and zoom until sufficient decrease and the strong curvature condition hold.
-// Derivative central: central differences: 2·dim objective calls per gradient, error O(u^(2/3)).
+// Derivative central: central differences: 2·dim objective calls per gradient, intervals from the objective's curvature, error O(u^(2/3)).
+// Gradient test relative: max over i of (|∂f/∂xᵢ| + eᵢ)·max(|xᵢ|, 1)/max(|f(x)|, 1), eᵢ the error bound of differences (0 for an analytic gradient).
 // Constants: initial 1.0, c1 0.0001, c2 0.1, at most 48 trials per line search.
-// Default stop: largest gradient component ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
+// Default stop: gradient measure ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
 //
-// Worst case: 200000 objective calls, 20 of them per gradient (the evaluation cap; the iteration limit alone would allow 5040021). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
+// Worst case: 200000 objective calls, 20 of them per gradient and 40 per choice of the difference intervals (at the start and before each convergence is confirmed) (the evaluation cap; the iteration limit alone would allow 5441149). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
 func PenaltyI10CGCentral(x0 [10]float64) PenaltyI10CGCentralResult {
 	return PenaltyI10CGCentralWithLimits(x0, PenaltyI10CGCentralDefaultLimits())
@@ -100,11 +107,13 @@ func PenaltyI10CGCentral(x0 [10]float64) PenaltyI10CGCentralResult {
 func PenaltyI10CGCentralWithLimits(x0 [10]float64, limits PenaltyI10CGCentralLimits) PenaltyI10CGCentralResult {
 	out := penaltyI10CGCentralMinimize(x0, limits)
 	return PenaltyI10CGCentralResult{
-		Evaluations: out.evaluations,
-		F:           out.f,
-		Iterations:  out.iterations,
-		Status:      out.status,
-		X:           out.x,
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
 	}
 }
 
@@ -117,27 +126,40 @@ const (
 	penaltyI10CGCentralDerivativeCost = 20                     // objective calls per gradient
 	penaltyI10CGCentralUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
 	penaltyI10CGCentralLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
-	penaltyI10CGCentralCentralScale   = 4.806217383937352e-06  // ∛u, central-difference step scale (Nocedal & Wright 2006, §8.1)
 )
 
 // penaltyI10CGCentralMinimize runs the descent loop from x0 within lim:
 //
-//  1. stop when the largest gradient component is at most lim.Gradient;
+//  1. stop, converged, when the gradient measure (penaltyI10CGCentralGradientMeasure, error
+//     bound of differences included) is at most the limit: lim.Gradient,
+//     or three times the measure of the differences' error bound when that is
+//     larger, so that the limit can be met (the floor the test can see);
+//     differences confirm it first (penaltyI10CGCentralConfirmGradient);
 //  2. stop after lim.Iterations accepted steps;
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
-//  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged,
-//     unless f contradicts an analytic gradient: no decrease);
+//  4. search along d; stop when no trial is acceptable or only steps
+//     shorter than the step limit are left to try: stalled, or no
+//     decrease when f contradicts an analytic gradient (see penaltyI10CGCentralRiseTrend);
 //  5. move, refresh the gradient, let the direction learn from the step;
-//  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
+//  6. stop, stalled, when every |Δx_i| is at most lim.Step·(|x_i| + 1) while
+//     the gradient test still fails. At a stall the run settles first
+//     (settle): the error bound gains the rounding floor of x, with
+//     differences confirmed, and the limit rises to ten times the larger
+//     of lim.Gradient and the bound's measure; a gradient within that is
+//     as small as this point can show, and the run is converged with that
+//     limit, which it reports.
 //
-// Before every objective call it checks that lim.Evaluations leaves room
-// for it, so the cap is never exceeded. A NaN or ±Inf at the start or in a
+// Only step 1 is convergence: the first-order test holds at X. Before
+// every objective call it checks that lim.Evaluations leaves room for it,
+// so the cap is never exceeded. A NaN or ±Inf at the start or in a
 // gradient ends the run with its own status; a non-finite trial value is
-// rejected by the line search like any failed trial.
+// rejected by the line search like any failed trial. X is the best point
+// seen unless the run converged, which it did at X. A fixed step whose
+// value overflows, or that raised f above f(x0) at eight steps in a row,
+// ends the run as diverged (common practice for a divergence test).
 func penaltyI10CGCentralMinimize(x0 [10]float64, lim PenaltyI10CGCentralLimits) penaltyI10CGCentralOutcome {
-	out := penaltyI10CGCentralOutcome{x: x0, status: PenaltyI10CGCentralOutOfEvaluations}
+	out := penaltyI10CGCentralOutcome{x: x0, status: PenaltyI10CGCentralOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
@@ -148,11 +170,14 @@ func penaltyI10CGCentralMinimize(x0 [10]float64, lim PenaltyI10CGCentralLimits) 
 		out.status = PenaltyI10CGCentralNonFiniteStart
 		return out
 	}
-	if out.evaluations+penaltyI10CGCentralDerivativeCost > lim.Evaluations {
+	var diffs penaltyI10CGCentralDifferences
+	calls, ok := penaltyI10CGCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
+	out.evaluations += calls
+	if !ok || out.evaluations+penaltyI10CGCentralDerivativeCost > lim.Evaluations {
 		return out
 	}
-	var g [10]float64
-	penaltyI10CGCentralDerivative(&x, fx, &g)
+	var g, e [10]float64
+	penaltyI10CGCentralDerivative(&x, fx, &g, &diffs)
 	out.evaluations += penaltyI10CGCentralDerivativeCost
 
 	if !penaltyI10CGCentralFiniteVec(&g) {
@@ -163,21 +188,76 @@ func penaltyI10CGCentralMinimize(x0 [10]float64, lim PenaltyI10CGCentralLimits) 
 	dir.reset()
 	var d, xt, gt, s, y [10]float64
 	t, slope := float64(penaltyI10CGCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
+	best := out                                                     // the lowest point seen, for runs that end unconverged
+	start, rises := fx, 0                                           // f(x0), and consecutive accepted steps that raised f above it
+	confirmed := false                                              // whether g and e at x come from penaltyI10CGCentralConfirmGradient
+	stalled := false                                                // whether the run can make no more progress at x
+	retried := -1                                                   // the iteration whose stall was retried with recalibrated differences
 	for {
-		if penaltyI10CGCentralMaxAbs(&g) <= lim.Gradient {
+		if !confirmed {
+			penaltyI10CGCentralGradientError(&x, fx, &g, &e, &diffs)
+		}
+		measure, floor := penaltyI10CGCentralGradientMeasure(&g, &e, &x, fx)
+		out.gradient, out.gradientLimit = measure, penaltyI10CGCentralLarger(lim.Gradient, 3*floor)
+		if stalled {
+			// No step can make progress here: the gradient is as small as
+			// this point shows it, within ten times the limit or the floor.
+			out.gradientLimit = 10 * penaltyI10CGCentralLarger(lim.Gradient, floor)
+		}
+		if out.f <= best.f {
+			best = out
+		}
+		if measure <= out.gradientLimit && (penaltyI10CGCentralDerivativeCost == 0 || confirmed) {
 			out.status = PenaltyI10CGCentralGradientSmall
 			return out
 		}
-		if out.iterations > 0 {
+		if measure <= out.gradientLimit {
+			// Differences pass the test: confirm it with intervals chosen
+			// here and an error measured rather than modelled.
+			calls, ok := penaltyI10CGCentralConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(PenaltyI10CGCentralOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !penaltyI10CGCentralFiniteVec(&g) {
+				return best.ending(PenaltyI10CGCentralNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			confirmed = true
+			continue
+		}
+		if stalled {
+			// Settled and still above the limit: stalled, unless
+			// differences, whose intervals were just chosen here, can
+			// search once more with the better gradient.
+			if penaltyI10CGCentralDerivativeCost == 0 {
+				return best.ending(PenaltyI10CGCentralStalled, out.iterations, out.evaluations)
+			}
+			stalled, retried = false, out.iterations
+		}
+		// At a stall, settle first: the run is converged if the gradient
+		// is zero to the rounding of x (and, with differences, to their
+		// accuracy, confirmed); see settle.
+		canSettle := retried != out.iterations
+		if out.iterations > 0 && canSettle {
 			if penaltyI10CGCentralStepWithin(&s, &x, lim.Step) {
-				out.status = PenaltyI10CGCentralStepTiny
-				return out
+				calls, ok := penaltyI10CGCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+				out.evaluations += calls
+				if !ok {
+					return best.ending(PenaltyI10CGCentralOutOfEvaluations, out.iterations, out.evaluations)
+				}
+				if !penaltyI10CGCentralFiniteVec(&g) {
+					return best.ending(PenaltyI10CGCentralNonFiniteGradient, out.iterations, out.evaluations)
+				}
+				stalled, confirmed = true, true
+				continue
+			}
+			if rises >= 8 {
+				return best.ending(PenaltyI10CGCentralDiverged, out.iterations, out.evaluations)
 			}
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
-			out.status = PenaltyI10CGCentralOutOfIterations
-			return out
+			return best.ending(PenaltyI10CGCentralOutOfIterations, out.iterations, out.evaluations)
 		}
 		dir.compute(&g, &d)
 		now := penaltyI10CGCentralDot(&g, &d)
@@ -191,50 +271,70 @@ func penaltyI10CGCentralMinimize(x0 [10]float64, lim PenaltyI10CGCentralLimits) 
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := penaltyI10CGCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := penaltyI10CGCentralLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt)
+		found := penaltyI10CGCentralLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case penaltyI10CGCentralSearchOutOfBudget:
-			return out
-		case penaltyI10CGCentralSearchExhausted:
-			out.status = PenaltyI10CGCentralNoAcceptableStep
-			return out
-		case penaltyI10CGCentralSearchTiny:
-			// Converged to the step limit: no step the step test would
-			// reject decreases f. Not so when an analytic gradient is
-			// contradicted by f rising in proportion to the step (see
-			// penaltyI10CGCentralRiseTrend, which never reports that for differences).
-			out.status = PenaltyI10CGCentralStepTiny
-			if found.rising {
-				out.status = PenaltyI10CGCentralNoDecrease
+			return best.ending(PenaltyI10CGCentralOutOfEvaluations, out.iterations, out.evaluations)
+		case penaltyI10CGCentralSearchDiverged:
+			return best.ending(PenaltyI10CGCentralDiverged, out.iterations, out.evaluations)
+		case penaltyI10CGCentralSearchExhausted, penaltyI10CGCentralSearchTiny:
+			// No acceptable step. When an analytic gradient predicted a
+			// fall that f contradicted in proportion to the step, the
+			// gradient is probably wrong (see penaltyI10CGCentralRiseTrend, which never
+			// reports that for differences); otherwise the search stalled
+			// below the step limit, or ran out of trials.
+			end := PenaltyI10CGCentralNoAcceptableStep
+			switch {
+			case found.rising:
+				end = PenaltyI10CGCentralNoDecrease
+			case found.end == penaltyI10CGCentralSearchTiny && canSettle:
+				calls, ok := penaltyI10CGCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+				out.evaluations += calls
+				if !ok {
+					return best.ending(PenaltyI10CGCentralOutOfEvaluations, out.iterations, out.evaluations)
+				}
+				if !penaltyI10CGCentralFiniteVec(&g) {
+					return best.ending(PenaltyI10CGCentralNonFiniteGradient, out.iterations, out.evaluations)
+				}
+				stalled, confirmed = true, true
+				continue
+			case found.end == penaltyI10CGCentralSearchTiny:
+				end = PenaltyI10CGCentralStalled
 			}
-			return out
+			return best.ending(end, out.iterations, out.evaluations)
 		}
 		if !penaltyI10CGCentralFiniteVec(&xt) {
-			out.status = PenaltyI10CGCentralNoAcceptableStep // the accepted trial overflowed x
-			return out
+			return best.ending(PenaltyI10CGCentralNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
 		}
 		if !found.gradient {
 			if out.evaluations+penaltyI10CGCentralDerivativeCost > lim.Evaluations {
-				if found.value < fx { // keep a better point even without its gradient
-					out.x, out.f = xt, found.value
+				if found.value < best.f { // keep a better point even without its gradient
+					best.x, best.f, best.gradient = xt, found.value, math.NaN()
 					out.iterations++
 				}
-				return out
+				return best.ending(PenaltyI10CGCentralOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			penaltyI10CGCentralDerivative(&xt, found.value, &gt)
+			penaltyI10CGCentralDerivative(&xt, found.value, &gt, &diffs)
 			out.evaluations += penaltyI10CGCentralDerivativeCost
 		}
 		out.iterations++
 		penaltyI10CGCentralDifference(&s, &xt, &x)
 		penaltyI10CGCentralDifference(&y, &gt, &g)
-		x, fx, g = xt, found.value, gt
-		out.x, out.f = x, fx
+		if found.value > fx && found.value > start {
+			rises++
+		} else {
+			rises = 0
+		}
+		x, fx, g, confirmed = xt, found.value, gt, false
+		out.x, out.f, out.gradient = x, fx, math.NaN()
 		t, slope = found.step, now
 
 		if !penaltyI10CGCentralFiniteVec(&g) {
-			out.status = PenaltyI10CGCentralNonFiniteGradient
-			return out
+			if out.f < best.f {
+				best = out
+			}
+			return best.ending(PenaltyI10CGCentralNonFiniteGradient, out.iterations, out.evaluations)
 		}
 	}
 }
@@ -242,11 +342,19 @@ func penaltyI10CGCentralMinimize(x0 [10]float64, lim PenaltyI10CGCentralLimits) 
 // penaltyI10CGCentralOutcome is the kernel's report; the generated entry point copies it into
 // the spec's result type.
 type penaltyI10CGCentralOutcome struct {
-	x           [10]float64
-	f           float64
-	iterations  int
-	evaluations int
-	status      PenaltyI10CGCentralStatus
+	x             [10]float64
+	f             float64
+	gradient      float64 // the stop test's measure at x, error bound included; NaN when not known
+	gradientLimit float64 // the limit that measure was held to
+	iterations    int
+	evaluations   int
+	status        PenaltyI10CGCentralStatus
+}
+
+// ending is the best point seen, reported with the run's end and counts.
+func (o penaltyI10CGCentralOutcome) ending(end PenaltyI10CGCentralStatus, iterations, evaluations int) penaltyI10CGCentralOutcome {
+	o.status, o.iterations, o.evaluations = end, iterations, evaluations
+	return o
 }
 
 // penaltyI10CGCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
@@ -271,26 +379,81 @@ func penaltyI10CGCentralFiniteVec(x *[10]float64) bool {
 	return true
 }
 
-// penaltyI10CGCentralDerivative approximates the gradient by central differences,
+// penaltyI10CGCentralDifferences is what the difference gradients learn from the objective
+// at the start: for each coordinate i, the interval as a multiple of
+// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
+// forward differences, |f‴| for central ones). The analytic gradient
+// leaves it unused.
+type penaltyI10CGCentralDifferences struct {
+	ratio     [10]float64
+	curvature [10]float64
+	second    [10]float64 // |f″| along e_i, for the rounding floor of a stall (see penaltyI10CGCentralRoundingFloor)
+}
+
+// penaltyI10CGCentralCalibrate chooses each central-difference interval from the
+// third derivative along e_i, estimated at x with four probes at ±h̄ and
+// ±2h̄, h̄ = u^(1/4)·s, s = max(1, |x_i|):
 //
-//	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),  h_i = ∛u · max(1, |x_i|),
+//	f‴ ≈ (f(x + 2h̄eᵢ) − 2f(x + h̄eᵢ) + 2f(x − h̄eᵢ) − f(x − 2h̄eᵢ)) / (2h̄³),
+//	h_i  = ∛(3ε_A / |f‴|)
 //
-// with error O(h²) (Nocedal & Wright 2006, eq. 8.7 and §8.1). It costs
-// 2·dim objective calls; fx is not needed.
-func penaltyI10CGCentralDerivative(x *[10]float64, fx float64, g *[10]float64) {
+// the interval that minimizes the truncation error h²|f‴|/6 plus the
+// rounding error ε_A/h of a central difference (Nocedal & Wright 2006,
+// §8.1, with the third-derivative estimate of the forward interval's
+// procedure of Gill, Murray, Saunders & Wright 1983 carried one order
+// up), with ε_A from penaltyI10CGCentralNoiseLevel and the probes' slopes. An estimate below
+// its rounding noise 3ε_A/h̄³ is replaced by that noise, and h_i is kept
+// within [64u·s, h̄]. It costs four objective calls per unknown.
+func penaltyI10CGCentralCalibrate(x *[10]float64, fx float64, diffs *penaltyI10CGCentralDifferences, budget int) (int, bool) {
 	probe := *x
+	var slope [10]float64
+	scale := penaltyI10CGCentralAbs(fx)
+	quarter := penaltyI10CGCentralSquareRoot(penaltyI10CGCentralSquareRoot(penaltyI10CGCentralUnitRoundoff)) // u^(1/4)
 	for i := range probe {
+		if 4*(i+1) > budget {
+			return 4 * i, false
+		}
 		xi := probe[i]
-		h := penaltyI10CGCentralCentralScale * penaltyI10CGCentralLarger(1, penaltyI10CGCentralAbs(xi)) // N&W §8.1: h = ∛u·max(1,|x_i|)
-		up := xi + h
-		down := xi - h
-		probe[i] = up
-		fUp := PenaltyI10(&probe)
-		probe[i] = down
-		fDown := PenaltyI10(&probe)
-		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+		bar := quarter * penaltyI10CGCentralLarger(1, penaltyI10CGCentralAbs(xi))
+		var f [4]float64
+		for k, m := range [4]float64{2, 1, -1, -2} {
+			probe[i], _ = penaltyI10CGCentralProbeStep(xi, m*bar)
+			f[k] = PenaltyI10(&probe)
+			scale = penaltyI10CGCentralLarger(scale, penaltyI10CGCentralMagnitude(f[k]))
+		}
 		probe[i] = xi
+		if penaltyI10CGCentralFinite(f[0]) && penaltyI10CGCentralFinite(f[1]) && penaltyI10CGCentralFinite(f[2]) && penaltyI10CGCentralFinite(f[3]) {
+			diffs.curvature[i] = penaltyI10CGCentralAbs(f[0]-2*f[1]+2*f[2]-f[3]) / (2 * bar * bar * bar)
+			diffs.second[i] = penaltyI10CGCentralAbs(f[1]-2*fx+f[2]) / (bar * bar)
+			slope[i] = (f[1] - f[2]) / (2 * bar)
+		}
 	}
+	noise := penaltyI10CGCentralNoiseLevel(x, scale, &slope)
+	for i := range probe {
+		s := penaltyI10CGCentralLarger(1, penaltyI10CGCentralAbs(probe[i]))
+		bar := quarter * s
+		third := penaltyI10CGCentralLarger(diffs.curvature[i], 3*noise/(bar*bar*bar))
+		h := bar
+		if third > 0 {
+			h = penaltyI10CGCentralCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+		}
+		diffs.ratio[i] = penaltyI10CGCentralClampBetween(h, 64*penaltyI10CGCentralUnitRoundoff*s, bar) / s
+		diffs.curvature[i] = third
+	}
+	return 4 * len(probe), true
+}
+
+// penaltyI10CGCentralAbs returns |v|.
+func penaltyI10CGCentralAbs(v float64) float64 {
+	if v < 0 {
+		return -v
+	}
+	return v
+}
+
+// penaltyI10CGCentralSquareRoot returns √v.
+func penaltyI10CGCentralSquareRoot(v float64) float64 {
+	return math.Sqrt(v)
 }
 
 // penaltyI10CGCentralLarger returns the larger of a and b, or a NaN among them. The builtin
@@ -303,12 +466,81 @@ func penaltyI10CGCentralLarger(a, b float64) float64 {
 	return b
 }
 
-// penaltyI10CGCentralAbs returns |v|.
-func penaltyI10CGCentralAbs(v float64) float64 {
-	if v < 0 {
-		return -v
+// penaltyI10CGCentralProbeStep returns x_i moved by h, and the step actually representable.
+func penaltyI10CGCentralProbeStep(xi, h float64) (float64, float64) {
+	moved := xi + h
+	return moved, moved - xi
+}
+
+// penaltyI10CGCentralMagnitude is |v| for a finite v and 0 otherwise: a probe that fell
+// outside the objective's domain says nothing about its rounding.
+func penaltyI10CGCentralMagnitude(v float64) float64 {
+	if !penaltyI10CGCentralFinite(v) {
+		return 0
+	}
+	return penaltyI10CGCentralAbs(v)
+}
+
+// penaltyI10CGCentralNoiseLevel is the absolute error assumed in a computed value fx of the
+// objective at x, where its gradient is about g:
+//
+//	ε_A = 4u·(|fx| + Σᵢ |gᵢ·xᵢ|),
+//
+// a few roundings of the result plus the change that rounding each xᵢ by
+// a relative u makes in f, which is what an objective computed with
+// cancellation inside (y − x² in Rosenbrock's valley) shows near a zero
+// minimum, where u·|f| alone vanishes (the first-order error of
+// evaluating f at a rounded x; the factor 4 is common practice; Gill,
+// Murray, Saunders & Wright 1983 leave ε_A to the user).
+func penaltyI10CGCentralNoiseLevel(x *[10]float64, fx float64, g *[10]float64) float64 {
+	sum := penaltyI10CGCentralAbs(fx)
+	for i := range x {
+		sum += penaltyI10CGCentralAbs(g[i] * x[i])
+	}
+	return 4 * penaltyI10CGCentralUnitRoundoff * sum
+}
+
+// penaltyI10CGCentralCubeRoot returns ∛v for v ≥ 0.
+func penaltyI10CGCentralCubeRoot(v float64) float64 {
+	return math.Cbrt(v)
+}
+
+// penaltyI10CGCentralClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func penaltyI10CGCentralClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
 	}
 	return v
+}
+
+// penaltyI10CGCentralDerivative approximates the gradient by central differences,
+//
+//	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),
+//
+// with the intervals penaltyI10CGCentralCalibrate chose, h_i = ratio_i·max(1, |x_i|)
+// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls; fx is
+// not needed.
+func penaltyI10CGCentralDerivative(x *[10]float64, fx float64, g *[10]float64, diffs *penaltyI10CGCentralDifferences) {
+	probe := *x
+	for i := range probe {
+		xi := probe[i]
+		h := diffs.ratio[i] * penaltyI10CGCentralLarger(1, penaltyI10CGCentralAbs(xi))
+		up, _ := penaltyI10CGCentralProbeStep(xi, h)
+		down, _ := penaltyI10CGCentralProbeStep(xi, -h)
+		probe[i] = up
+		fUp := PenaltyI10(&probe)
+		probe[i] = down
+		fDown := PenaltyI10(&probe)
+		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+		probe[i] = xi
+	}
 }
 
 // penaltyI10CGCentralDirection is nonlinear conjugate gradients with the Polak–Ribière
@@ -383,15 +615,67 @@ func penaltyI10CGCentralScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
-// penaltyI10CGCentralMaxAbs returns the largest |x_i|, the infinity norm.
-func penaltyI10CGCentralMaxAbs(x *[10]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := penaltyI10CGCentralAbs(x[i]); a > m || a != a {
-			m = a
-		}
+// penaltyI10CGCentralGradientError bounds each central difference's error by twice its
+// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
+// in forwardError).
+func penaltyI10CGCentralGradientError(x *[10]float64, fx float64, g, e *[10]float64, diffs *penaltyI10CGCentralDifferences) {
+	noise := penaltyI10CGCentralNoiseLevel(x, fx, g)
+	for i := range e {
+		h := diffs.ratio[i] * penaltyI10CGCentralLarger(1, penaltyI10CGCentralAbs(x[i]))
+		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
 	}
-	return m
+}
+
+// penaltyI10CGCentralGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func penaltyI10CGCentralGradientMeasure(g, e, x *[10]float64, fx float64) (measure, floor float64) {
+	scale := penaltyI10CGCentralLarger(penaltyI10CGCentralAbs(fx), 1)
+	for i := range g {
+		w := penaltyI10CGCentralLarger(penaltyI10CGCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = penaltyI10CGCentralLarger(measure, (penaltyI10CGCentralAbs(g[i])+e[i])*w)
+		floor = penaltyI10CGCentralLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// penaltyI10CGCentralConfirmGradient recomputes a difference gradient at x before the run is
+// called converged there: it chooses the intervals again from the
+// curvature at x (calibrate), computes g with them and with twice them,
+// and bounds each component's error by the model (penaltyI10CGCentralGradientError) plus
+// three times the change the doubling made. That change measures what the
+// model can miss, truncation from curvature that varies and rounding
+// noise above 4u·|f|; as one sample of that noise it is tripled
+// (Richardson's idea of comparing two intervals; the factor is common
+// practice for a posteriori error estimates). It costs a calibration and two
+// gradients, and returns the calls spent and false when budget ran out
+// first.
+func penaltyI10CGCentralConfirmGradient(x *[10]float64, fx float64, g, e *[10]float64, diffs *penaltyI10CGCentralDifferences, budget int) (int, bool) {
+	calls, ok := penaltyI10CGCentralCalibrate(x, fx, diffs, budget)
+	if !ok || calls+2*penaltyI10CGCentralDerivativeCost > budget {
+		return calls, false
+	}
+	wide := *diffs
+	for i := range wide.ratio {
+		wide.ratio[i] *= 2
+	}
+	var doubled [10]float64
+	penaltyI10CGCentralDerivative(x, fx, g, diffs)
+	penaltyI10CGCentralDerivative(x, fx, &doubled, &wide)
+	penaltyI10CGCentralGradientError(x, fx, g, e, diffs)
+	for i := range e {
+		e[i] += 3 * penaltyI10CGCentralAbs(g[i]-doubled[i])
+	}
+	return calls + 2*penaltyI10CGCentralDerivativeCost, true
 }
 
 // penaltyI10CGCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
@@ -404,6 +688,43 @@ func penaltyI10CGCentralStepWithin(s, x *[10]float64, tol float64) bool {
 		}
 	}
 	return true
+}
+
+// penaltyI10CGCentralSettle prepares the final verdict at a stall: with differences it
+// confirms the gradient (penaltyI10CGCentralConfirmGradient), then it adds to each error
+// bound the rounding floor of x (penaltyI10CGCentralRoundingFloor). It returns the objective
+// calls spent and false when budget ran out first.
+func penaltyI10CGCentralSettle(x *[10]float64, fx float64, g, e *[10]float64, diffs *penaltyI10CGCentralDifferences, budget int) (int, bool) {
+	calls := 0
+	if penaltyI10CGCentralDerivativeCost > 0 {
+		spent, ok := penaltyI10CGCentralConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
+	}
+	penaltyI10CGCentralRoundingFloor(x, g, e, diffs)
+	return calls, true
+}
+
+// penaltyI10CGCentralRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
+// that moving xᵢ by a few of its rounding units makes in gᵢ:
+// where no step the step test resolves decreases f, a gradient that small
+// is zero to the rounding of x (the resolution of x in floating point,
+// common practice). It is added only at a stall, so a gradient far above
+// it still ends the run as stalled.
+func penaltyI10CGCentralRoundingFloor(x, g, e *[10]float64, diffs *penaltyI10CGCentralDifferences) {
+	var h [10]float64
+	penaltyI10CGCentralDiagonalCurvature(x, g, diffs, &h)
+	for i := range e {
+		e[i] += 4 * penaltyI10CGCentralUnitRoundoff * penaltyI10CGCentralAbs(x[i]) * h[i]
+	}
+}
+
+// penaltyI10CGCentralDiagonalCurvature takes each |f″| along eᵢ from the differences' last
+// calibration, which penaltyI10CGCentralConfirmGradient has just made at x.
+func penaltyI10CGCentralDiagonalCurvature(x, g *[10]float64, diffs *penaltyI10CGCentralDifferences, h *[10]float64) {
+	*h = diffs.second
 }
 
 // penaltyI10CGCentralTinyStep returns the longest t for which the step t·d from x passes the
@@ -442,7 +763,7 @@ func penaltyI10CGCentralTinyStep(x, d *[10]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func penaltyI10CGCentralLineSearch(x *[10]float64, fx float64, d *[10]float64, slope, first, tiny float64, budget int, xt, gt *[10]float64) penaltyI10CGCentralLineResult {
+func penaltyI10CGCentralLineSearch(x *[10]float64, fx float64, d *[10]float64, slope, first, tiny float64, budget int, xt, gt *[10]float64, diffs *penaltyI10CGCentralDifferences) penaltyI10CGCentralLineResult {
 	low := penaltyI10CGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyI10CGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                  // ∇f at low, kept for accepting low from a collapsed bracket
@@ -474,7 +795,7 @@ func penaltyI10CGCentralLineSearch(x *[10]float64, fx float64, d *[10]float64, s
 			if calls+penaltyI10CGCentralDerivativeCost > budget {
 				return penaltyI10CGCentralLineResult{calls: calls, end: penaltyI10CGCentralSearchOutOfBudget}
 			}
-			penaltyI10CGCentralDerivative(xt, current.value, gt)
+			penaltyI10CGCentralDerivative(xt, current.value, gt, diffs)
 			calls += penaltyI10CGCentralDerivativeCost
 			current.slope, current.hasSlope = penaltyI10CGCentralDot(gt, d), true
 			switch {
@@ -499,7 +820,7 @@ func penaltyI10CGCentralLineSearch(x *[10]float64, fx float64, d *[10]float64, s
 	if low.step > 0 {
 		return penaltyI10CGCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
 	}
-	return penaltyI10CGCentralLineResult{calls: calls, end: penaltyI10CGCentralSearchExhausted}
+	return penaltyI10CGCentralLineResult{calls: calls, rising: trend.contradicts(), end: penaltyI10CGCentralSearchExhausted}
 }
 
 // penaltyI10CGCentralLineResult is what a line search reports to the kernel.
@@ -600,6 +921,7 @@ const (
 	penaltyI10CGCentralSearchExhausted                                       // penaltyI10CGCentralStepTrials trials met none
 	penaltyI10CGCentralSearchOutOfBudget                                     // the evaluation cap came first
 	penaltyI10CGCentralSearchTiny                                            // every step longer than tiny failed to decrease f
+	penaltyI10CGCentralSearchDiverged                                        // a fixed step's value overflowed
 )
 
 // penaltyI10CGCentralAcceptLow ends a Wolfe search with its best trial, which met sufficient
@@ -665,26 +987,6 @@ func penaltyI10CGCentralModelMinimizer(a, b *penaltyI10CGCentralLinePoint) (t fl
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, penaltyI10CGCentralFinite(t)
-}
-
-// penaltyI10CGCentralSquareRoot returns √v.
-func penaltyI10CGCentralSquareRoot(v float64) float64 {
-	return math.Sqrt(v)
-}
-
-// penaltyI10CGCentralClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func penaltyI10CGCentralClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // penaltyI10CGCentralExpandTrial picks a larger trial after current met sufficient decrease

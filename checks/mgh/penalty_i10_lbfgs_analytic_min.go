@@ -8,10 +8,10 @@ import "math"
 type PenaltyI10LBFGSAnalyticStatus uint8
 
 const (
-	// PenaltyI10LBFGSAnalyticGradientSmall: the largest gradient component fell to the gradient limit: converged.
+	// PenaltyI10LBFGSAnalyticGradientSmall: the gradient test holds at X: its measure, with the differences' error bound when they are used, is at most the gradient limit: converged.
 	PenaltyI10LBFGSAnalyticGradientSmall PenaltyI10LBFGSAnalyticStatus = iota + 1
-	// PenaltyI10LBFGSAnalyticStepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f: converged.
-	PenaltyI10LBFGSAnalyticStepTiny
+	// PenaltyI10LBFGSAnalyticStalled: the step test ended the run, or no step longer than the step limit decreased f, while the gradient test still fails: X is as far as the run could get, not a verified minimizer.
+	PenaltyI10LBFGSAnalyticStalled
 	// PenaltyI10LBFGSAnalyticOutOfIterations: the iteration limit came first.
 	PenaltyI10LBFGSAnalyticOutOfIterations
 	// PenaltyI10LBFGSAnalyticOutOfEvaluations: the next objective call would have exceeded the evaluation cap.
@@ -22,8 +22,10 @@ const (
 	PenaltyI10LBFGSAnalyticNonFiniteStart
 	// PenaltyI10LBFGSAnalyticNonFiniteGradient: a gradient component became NaN or ±Inf.
 	PenaltyI10LBFGSAnalyticNonFiniteGradient
-	// PenaltyI10LBFGSAnalyticNoDecrease: no step longer than the step limit decreased f, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test).
+	// PenaltyI10LBFGSAnalyticNoDecrease: the line search found no acceptable step, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test).
 	PenaltyI10LBFGSAnalyticNoDecrease
+	// PenaltyI10LBFGSAnalyticDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
+	PenaltyI10LBFGSAnalyticDiverged
 )
 
 // String describes the status in a few words.
@@ -31,8 +33,8 @@ func (s PenaltyI10LBFGSAnalyticStatus) String() string {
 	switch s {
 	case PenaltyI10LBFGSAnalyticGradientSmall:
 		return "gradient small"
-	case PenaltyI10LBFGSAnalyticStepTiny:
-		return "step tiny"
+	case PenaltyI10LBFGSAnalyticStalled:
+		return "stalled"
 	case PenaltyI10LBFGSAnalyticOutOfIterations:
 		return "out of iterations"
 	case PenaltyI10LBFGSAnalyticOutOfEvaluations:
@@ -45,28 +47,32 @@ func (s PenaltyI10LBFGSAnalyticStatus) String() string {
 		return "non-finite gradient"
 	case PenaltyI10LBFGSAnalyticNoDecrease:
 		return "no decrease"
+	case PenaltyI10LBFGSAnalyticDiverged:
+		return "diverged"
 	default:
 		return "unknown status"
 	}
 }
 
-// Converged reports whether a convergence test, on the gradient or on the step, ended the run; limits, line-search failure and non-finite values are not convergence.
+// Converged reports whether the gradient test holds at X (Gradient ≤ GradientLimit in the result): only then is X a verified stationary point; a stall, the limits, line-search failure and non-finite values are not convergence.
 func (s PenaltyI10LBFGSAnalyticStatus) Converged() bool {
-	return s == PenaltyI10LBFGSAnalyticGradientSmall || s == PenaltyI10LBFGSAnalyticStepTiny
+	return s == PenaltyI10LBFGSAnalyticGradientSmall
 }
 
 // PenaltyI10LBFGSAnalyticResult is where PenaltyI10LBFGSAnalytic stopped and why.
 type PenaltyI10LBFGSAnalyticResult struct {
-	X           [10]float64                   // the last accepted point, the best one found
-	F           float64                       // the objective at X
-	Iterations  int                           // accepted steps
-	Evaluations int                           // objective calls, finite differences included
-	Status      PenaltyI10LBFGSAnalyticStatus // why the run stopped; check Status.Converged()
+	X             [10]float64                   // where the gradient test held, when converged; else the lowest point seen
+	F             float64                       // the objective at X
+	Gradient      float64                       // the gradient test's measure at X, the differences' error bound included; NaN when the run ended before the gradient at X was known
+	GradientLimit float64                       // the limit Gradient was held to: Limits.Gradient, raised with differences to ten times the measure of their error bound; converged runs have Gradient ≤ GradientLimit
+	Iterations    int                           // accepted steps
+	Evaluations   int                           // objective calls, finite differences included
+	Status        PenaltyI10LBFGSAnalyticStatus // why the run stopped; check Status.Converged()
 }
 
 // PenaltyI10LBFGSAnalyticLimits are the stop limits of one run. Pass them to PenaltyI10LBFGSAnalyticWithLimits to change them at run time; PenaltyI10LBFGSAnalyticDefaultLimits returns the spec's.
 type PenaltyI10LBFGSAnalyticLimits struct {
-	Gradient    float64 // stop when the largest |∂f/∂xᵢ| is at most this
+	Gradient    float64 // stop, converged, when the gradient test's measure is at most this (with differences, at most ten times the measure of their error bound where that is larger)
 	Step        float64 // stop when every |Δxᵢ| is at most this·(|xᵢ| + 1)
 	Iterations  int     // most accepted steps
 	Evaluations int     // hard cap on objective calls, finite differences included; never exceeded
@@ -87,10 +93,11 @@ func PenaltyI10LBFGSAnalyticDefaultLimits() PenaltyI10LBFGSAnalyticLimits {
 // Direction lbfgs: limited-memory BFGS: the last `memory` pairs, two-loop recursion (2·memory·dim numbers).
 // Step rule wolfe: bracket and zoom until sufficient decrease and the curvature condition hold.
 // Derivative analytic: the user's own gradient function (spec key `gradient`); costs no objective calls.
+// Gradient test relative: max over i of (|∂f/∂xᵢ| + eᵢ)·max(|xᵢ|, 1)/max(|f(x)|, 1), eᵢ the error bound of differences (0 for an analytic gradient).
 // Constants: initial 1.0, c1 0.0001, c2 0.9, at most 48 trials per line search, memory 5 pairs.
-// Default stop: largest gradient component ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
+// Default stop: gradient measure ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
 //
-// Worst case: 200000 objective calls (the evaluation cap; the iteration limit alone would allow 240001). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
+// Worst case: 200000 objective calls (the evaluation cap; the iteration limit alone would allow 240049). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
 func PenaltyI10LBFGSAnalytic(x0 [10]float64) PenaltyI10LBFGSAnalyticResult {
 	return PenaltyI10LBFGSAnalyticWithLimits(x0, PenaltyI10LBFGSAnalyticDefaultLimits())
@@ -100,11 +107,13 @@ func PenaltyI10LBFGSAnalytic(x0 [10]float64) PenaltyI10LBFGSAnalyticResult {
 func PenaltyI10LBFGSAnalyticWithLimits(x0 [10]float64, limits PenaltyI10LBFGSAnalyticLimits) PenaltyI10LBFGSAnalyticResult {
 	out := penaltyI10LBFGSAnalyticMinimize(x0, limits)
 	return PenaltyI10LBFGSAnalyticResult{
-		Evaluations: out.evaluations,
-		F:           out.f,
-		Iterations:  out.iterations,
-		Status:      out.status,
-		X:           out.x,
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
 	}
 }
 
@@ -122,22 +131,36 @@ const (
 
 // penaltyI10LBFGSAnalyticMinimize runs the descent loop from x0 within lim:
 //
-//  1. stop when the largest gradient component is at most lim.Gradient;
+//  1. stop, converged, when the gradient measure (penaltyI10LBFGSAnalyticGradientMeasure, error
+//     bound of differences included) is at most the limit: lim.Gradient,
+//     or three times the measure of the differences' error bound when that is
+//     larger, so that the limit can be met (the floor the test can see);
+//     differences confirm it first (penaltyI10LBFGSAnalyticConfirmGradient);
 //  2. stop after lim.Iterations accepted steps;
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
-//  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged,
-//     unless f contradicts an analytic gradient: no decrease);
+//  4. search along d; stop when no trial is acceptable or only steps
+//     shorter than the step limit are left to try: stalled, or no
+//     decrease when f contradicts an analytic gradient (see penaltyI10LBFGSAnalyticRiseTrend);
 //  5. move, refresh the gradient, let the direction learn from the step;
-//  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
+//  6. stop, stalled, when every |Δx_i| is at most lim.Step·(|x_i| + 1) while
+//     the gradient test still fails. At a stall the run settles first
+//     (settle): the error bound gains the rounding floor of x, with
+//     differences confirmed, and the limit rises to ten times the larger
+//     of lim.Gradient and the bound's measure; a gradient within that is
+//     as small as this point can show, and the run is converged with that
+//     limit, which it reports.
 //
-// Before every objective call it checks that lim.Evaluations leaves room
-// for it, so the cap is never exceeded. A NaN or ±Inf at the start or in a
+// Only step 1 is convergence: the first-order test holds at X. Before
+// every objective call it checks that lim.Evaluations leaves room for it,
+// so the cap is never exceeded. A NaN or ±Inf at the start or in a
 // gradient ends the run with its own status; a non-finite trial value is
-// rejected by the line search like any failed trial.
+// rejected by the line search like any failed trial. X is the best point
+// seen unless the run converged, which it did at X. A fixed step whose
+// value overflows, or that raised f above f(x0) at eight steps in a row,
+// ends the run as diverged (common practice for a divergence test).
 func penaltyI10LBFGSAnalyticMinimize(x0 [10]float64, lim PenaltyI10LBFGSAnalyticLimits) penaltyI10LBFGSAnalyticOutcome {
-	out := penaltyI10LBFGSAnalyticOutcome{x: x0, status: PenaltyI10LBFGSAnalyticOutOfEvaluations}
+	out := penaltyI10LBFGSAnalyticOutcome{x: x0, status: PenaltyI10LBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
@@ -148,11 +171,14 @@ func penaltyI10LBFGSAnalyticMinimize(x0 [10]float64, lim PenaltyI10LBFGSAnalytic
 		out.status = PenaltyI10LBFGSAnalyticNonFiniteStart
 		return out
 	}
-	if out.evaluations+penaltyI10LBFGSAnalyticDerivativeCost > lim.Evaluations {
+	var diffs penaltyI10LBFGSAnalyticDifferences
+	calls, ok := penaltyI10LBFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
+	out.evaluations += calls
+	if !ok || out.evaluations+penaltyI10LBFGSAnalyticDerivativeCost > lim.Evaluations {
 		return out
 	}
-	var g [10]float64
-	penaltyI10LBFGSAnalyticDerivative(&x, fx, &g)
+	var g, e [10]float64
+	penaltyI10LBFGSAnalyticDerivative(&x, fx, &g, &diffs)
 	out.evaluations += penaltyI10LBFGSAnalyticDerivativeCost
 
 	if !penaltyI10LBFGSAnalyticFiniteVec(&g) {
@@ -163,21 +189,76 @@ func penaltyI10LBFGSAnalyticMinimize(x0 [10]float64, lim PenaltyI10LBFGSAnalytic
 	dir.reset()
 	var d, xt, gt, s, y [10]float64
 	t, slope := float64(penaltyI10LBFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
+	best := out                                                         // the lowest point seen, for runs that end unconverged
+	start, rises := fx, 0                                               // f(x0), and consecutive accepted steps that raised f above it
+	confirmed := false                                                  // whether g and e at x come from penaltyI10LBFGSAnalyticConfirmGradient
+	stalled := false                                                    // whether the run can make no more progress at x
+	retried := -1                                                       // the iteration whose stall was retried with recalibrated differences
 	for {
-		if penaltyI10LBFGSAnalyticMaxAbs(&g) <= lim.Gradient {
+		if !confirmed {
+			penaltyI10LBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
+		}
+		measure, floor := penaltyI10LBFGSAnalyticGradientMeasure(&g, &e, &x, fx)
+		out.gradient, out.gradientLimit = measure, penaltyI10LBFGSAnalyticLarger(lim.Gradient, 3*floor)
+		if stalled {
+			// No step can make progress here: the gradient is as small as
+			// this point shows it, within ten times the limit or the floor.
+			out.gradientLimit = 10 * penaltyI10LBFGSAnalyticLarger(lim.Gradient, floor)
+		}
+		if out.f <= best.f {
+			best = out
+		}
+		if measure <= out.gradientLimit && (penaltyI10LBFGSAnalyticDerivativeCost == 0 || confirmed) {
 			out.status = PenaltyI10LBFGSAnalyticGradientSmall
 			return out
 		}
-		if out.iterations > 0 {
+		if measure <= out.gradientLimit {
+			// Differences pass the test: confirm it with intervals chosen
+			// here and an error measured rather than modelled.
+			calls, ok := penaltyI10LBFGSAnalyticConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(PenaltyI10LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !penaltyI10LBFGSAnalyticFiniteVec(&g) {
+				return best.ending(PenaltyI10LBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			confirmed = true
+			continue
+		}
+		if stalled {
+			// Settled and still above the limit: stalled, unless
+			// differences, whose intervals were just chosen here, can
+			// search once more with the better gradient.
+			if penaltyI10LBFGSAnalyticDerivativeCost == 0 {
+				return best.ending(PenaltyI10LBFGSAnalyticStalled, out.iterations, out.evaluations)
+			}
+			stalled, retried = false, out.iterations
+		}
+		// At a stall, settle first: the run is converged if the gradient
+		// is zero to the rounding of x (and, with differences, to their
+		// accuracy, confirmed); see settle.
+		canSettle := retried != out.iterations
+		if out.iterations > 0 && canSettle {
 			if penaltyI10LBFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				out.status = PenaltyI10LBFGSAnalyticStepTiny
-				return out
+				calls, ok := penaltyI10LBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+				out.evaluations += calls
+				if !ok {
+					return best.ending(PenaltyI10LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+				}
+				if !penaltyI10LBFGSAnalyticFiniteVec(&g) {
+					return best.ending(PenaltyI10LBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+				}
+				stalled, confirmed = true, true
+				continue
+			}
+			if rises >= 8 {
+				return best.ending(PenaltyI10LBFGSAnalyticDiverged, out.iterations, out.evaluations)
 			}
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
-			out.status = PenaltyI10LBFGSAnalyticOutOfIterations
-			return out
+			return best.ending(PenaltyI10LBFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
 		}
 		dir.compute(&g, &d)
 		now := penaltyI10LBFGSAnalyticDot(&g, &d)
@@ -191,50 +272,70 @@ func penaltyI10LBFGSAnalyticMinimize(x0 [10]float64, lim PenaltyI10LBFGSAnalytic
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := penaltyI10LBFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := penaltyI10LBFGSAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt)
+		found := penaltyI10LBFGSAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case penaltyI10LBFGSAnalyticSearchOutOfBudget:
-			return out
-		case penaltyI10LBFGSAnalyticSearchExhausted:
-			out.status = PenaltyI10LBFGSAnalyticNoAcceptableStep
-			return out
-		case penaltyI10LBFGSAnalyticSearchTiny:
-			// Converged to the step limit: no step the step test would
-			// reject decreases f. Not so when an analytic gradient is
-			// contradicted by f rising in proportion to the step (see
-			// penaltyI10LBFGSAnalyticRiseTrend, which never reports that for differences).
-			out.status = PenaltyI10LBFGSAnalyticStepTiny
-			if found.rising {
-				out.status = PenaltyI10LBFGSAnalyticNoDecrease
+			return best.ending(PenaltyI10LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+		case penaltyI10LBFGSAnalyticSearchDiverged:
+			return best.ending(PenaltyI10LBFGSAnalyticDiverged, out.iterations, out.evaluations)
+		case penaltyI10LBFGSAnalyticSearchExhausted, penaltyI10LBFGSAnalyticSearchTiny:
+			// No acceptable step. When an analytic gradient predicted a
+			// fall that f contradicted in proportion to the step, the
+			// gradient is probably wrong (see penaltyI10LBFGSAnalyticRiseTrend, which never
+			// reports that for differences); otherwise the search stalled
+			// below the step limit, or ran out of trials.
+			end := PenaltyI10LBFGSAnalyticNoAcceptableStep
+			switch {
+			case found.rising:
+				end = PenaltyI10LBFGSAnalyticNoDecrease
+			case found.end == penaltyI10LBFGSAnalyticSearchTiny && canSettle:
+				calls, ok := penaltyI10LBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+				out.evaluations += calls
+				if !ok {
+					return best.ending(PenaltyI10LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+				}
+				if !penaltyI10LBFGSAnalyticFiniteVec(&g) {
+					return best.ending(PenaltyI10LBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+				}
+				stalled, confirmed = true, true
+				continue
+			case found.end == penaltyI10LBFGSAnalyticSearchTiny:
+				end = PenaltyI10LBFGSAnalyticStalled
 			}
-			return out
+			return best.ending(end, out.iterations, out.evaluations)
 		}
 		if !penaltyI10LBFGSAnalyticFiniteVec(&xt) {
-			out.status = PenaltyI10LBFGSAnalyticNoAcceptableStep // the accepted trial overflowed x
-			return out
+			return best.ending(PenaltyI10LBFGSAnalyticNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
 		}
 		if !found.gradient {
 			if out.evaluations+penaltyI10LBFGSAnalyticDerivativeCost > lim.Evaluations {
-				if found.value < fx { // keep a better point even without its gradient
-					out.x, out.f = xt, found.value
+				if found.value < best.f { // keep a better point even without its gradient
+					best.x, best.f, best.gradient = xt, found.value, math.NaN()
 					out.iterations++
 				}
-				return out
+				return best.ending(PenaltyI10LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			penaltyI10LBFGSAnalyticDerivative(&xt, found.value, &gt)
+			penaltyI10LBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
 			out.evaluations += penaltyI10LBFGSAnalyticDerivativeCost
 		}
 		out.iterations++
 		penaltyI10LBFGSAnalyticDifference(&s, &xt, &x)
 		penaltyI10LBFGSAnalyticDifference(&y, &gt, &g)
-		x, fx, g = xt, found.value, gt
-		out.x, out.f = x, fx
+		if found.value > fx && found.value > start {
+			rises++
+		} else {
+			rises = 0
+		}
+		x, fx, g, confirmed = xt, found.value, gt, false
+		out.x, out.f, out.gradient = x, fx, math.NaN()
 		t, slope = found.step, now
 
 		if !penaltyI10LBFGSAnalyticFiniteVec(&g) {
-			out.status = PenaltyI10LBFGSAnalyticNonFiniteGradient
-			return out
+			if out.f < best.f {
+				best = out
+			}
+			return best.ending(PenaltyI10LBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
 		}
 	}
 }
@@ -242,11 +343,19 @@ func penaltyI10LBFGSAnalyticMinimize(x0 [10]float64, lim PenaltyI10LBFGSAnalytic
 // penaltyI10LBFGSAnalyticOutcome is the kernel's report; the generated entry point copies it into
 // the spec's result type.
 type penaltyI10LBFGSAnalyticOutcome struct {
-	x           [10]float64
-	f           float64
-	iterations  int
-	evaluations int
-	status      PenaltyI10LBFGSAnalyticStatus
+	x             [10]float64
+	f             float64
+	gradient      float64 // the stop test's measure at x, error bound included; NaN when not known
+	gradientLimit float64 // the limit that measure was held to
+	iterations    int
+	evaluations   int
+	status        PenaltyI10LBFGSAnalyticStatus
+}
+
+// ending is the best point seen, reported with the run's end and counts.
+func (o penaltyI10LBFGSAnalyticOutcome) ending(end PenaltyI10LBFGSAnalyticStatus, iterations, evaluations int) penaltyI10LBFGSAnalyticOutcome {
+	o.status, o.iterations, o.evaluations = end, iterations, evaluations
+	return o
 }
 
 // penaltyI10LBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
@@ -271,8 +380,24 @@ func penaltyI10LBFGSAnalyticFiniteVec(x *[10]float64) bool {
 	return true
 }
 
+// penaltyI10LBFGSAnalyticDifferences is what the difference gradients learn from the objective
+// at the start: for each coordinate i, the interval as a multiple of
+// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
+// forward differences, |f‴| for central ones). The analytic gradient
+// leaves it unused.
+type penaltyI10LBFGSAnalyticDifferences struct {
+	ratio     [10]float64
+	curvature [10]float64
+	second    [10]float64 // |f″| along e_i, for the rounding floor of a stall (see penaltyI10LBFGSAnalyticRoundingFloor)
+}
+
+// penaltyI10LBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
+func penaltyI10LBFGSAnalyticCalibrate(x *[10]float64, fx float64, diffs *penaltyI10LBFGSAnalyticDifferences, budget int) (int, bool) {
+	return 0, true
+}
+
 // penaltyI10LBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func penaltyI10LBFGSAnalyticDerivative(x *[10]float64, fx float64, g *[10]float64) {
+func penaltyI10LBFGSAnalyticDerivative(x *[10]float64, fx float64, g *[10]float64, diffs *penaltyI10LBFGSAnalyticDifferences) {
 	PenaltyI10Grad(x, g)
 }
 
@@ -391,15 +516,43 @@ func penaltyI10LBFGSAnalyticCurvatureSafe(s, y *[10]float64) bool {
 	return sy > 0 && (sy/penaltyI10LBFGSAnalyticDot(s, s))*(sy/penaltyI10LBFGSAnalyticDot(y, y)) > penaltyI10LBFGSAnalyticUnitRoundoff
 }
 
-// penaltyI10LBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
-func penaltyI10LBFGSAnalyticMaxAbs(x *[10]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := penaltyI10LBFGSAnalyticAbs(x[i]); a > m || a != a {
-			m = a
-		}
+// penaltyI10LBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func penaltyI10LBFGSAnalyticGradientError(x *[10]float64, fx float64, g, e *[10]float64, diffs *penaltyI10LBFGSAnalyticDifferences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return m
+}
+
+// penaltyI10LBFGSAnalyticGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func penaltyI10LBFGSAnalyticGradientMeasure(g, e, x *[10]float64, fx float64) (measure, floor float64) {
+	scale := penaltyI10LBFGSAnalyticLarger(penaltyI10LBFGSAnalyticAbs(fx), 1)
+	for i := range g {
+		w := penaltyI10LBFGSAnalyticLarger(penaltyI10LBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = penaltyI10LBFGSAnalyticLarger(measure, (penaltyI10LBFGSAnalyticAbs(g[i])+e[i])*w)
+		floor = penaltyI10LBFGSAnalyticLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// penaltyI10LBFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func penaltyI10LBFGSAnalyticLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
 }
 
 // penaltyI10LBFGSAnalyticAbs returns |v|.
@@ -408,6 +561,36 @@ func penaltyI10LBFGSAnalyticAbs(v float64) float64 {
 		return -v
 	}
 	return v
+}
+
+// penaltyI10LBFGSAnalyticConfirmGradient recomputes a difference gradient at x before the run is
+// called converged there: it chooses the intervals again from the
+// curvature at x (calibrate), computes g with them and with twice them,
+// and bounds each component's error by the model (penaltyI10LBFGSAnalyticGradientError) plus
+// three times the change the doubling made. That change measures what the
+// model can miss, truncation from curvature that varies and rounding
+// noise above 4u·|f|; as one sample of that noise it is tripled
+// (Richardson's idea of comparing two intervals; the factor is common
+// practice for a posteriori error estimates). It costs a calibration and two
+// gradients, and returns the calls spent and false when budget ran out
+// first.
+func penaltyI10LBFGSAnalyticConfirmGradient(x *[10]float64, fx float64, g, e *[10]float64, diffs *penaltyI10LBFGSAnalyticDifferences, budget int) (int, bool) {
+	calls, ok := penaltyI10LBFGSAnalyticCalibrate(x, fx, diffs, budget)
+	if !ok || calls+2*penaltyI10LBFGSAnalyticDerivativeCost > budget {
+		return calls, false
+	}
+	wide := *diffs
+	for i := range wide.ratio {
+		wide.ratio[i] *= 2
+	}
+	var doubled [10]float64
+	penaltyI10LBFGSAnalyticDerivative(x, fx, g, diffs)
+	penaltyI10LBFGSAnalyticDerivative(x, fx, &doubled, &wide)
+	penaltyI10LBFGSAnalyticGradientError(x, fx, g, e, diffs)
+	for i := range e {
+		e[i] += 3 * penaltyI10LBFGSAnalyticAbs(g[i]-doubled[i])
+	}
+	return calls + 2*penaltyI10LBFGSAnalyticDerivativeCost, true
 }
 
 // penaltyI10LBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
@@ -420,6 +603,65 @@ func penaltyI10LBFGSAnalyticStepWithin(s, x *[10]float64, tol float64) bool {
 		}
 	}
 	return true
+}
+
+// penaltyI10LBFGSAnalyticSettle prepares the final verdict at a stall: with differences it
+// confirms the gradient (penaltyI10LBFGSAnalyticConfirmGradient), then it adds to each error
+// bound the rounding floor of x (penaltyI10LBFGSAnalyticRoundingFloor). It returns the objective
+// calls spent and false when budget ran out first.
+func penaltyI10LBFGSAnalyticSettle(x *[10]float64, fx float64, g, e *[10]float64, diffs *penaltyI10LBFGSAnalyticDifferences, budget int) (int, bool) {
+	calls := 0
+	if penaltyI10LBFGSAnalyticDerivativeCost > 0 {
+		spent, ok := penaltyI10LBFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
+	}
+	penaltyI10LBFGSAnalyticRoundingFloor(x, g, e, diffs)
+	return calls, true
+}
+
+// penaltyI10LBFGSAnalyticRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
+// that moving xᵢ by a few of its rounding units makes in gᵢ:
+// where no step the step test resolves decreases f, a gradient that small
+// is zero to the rounding of x (the resolution of x in floating point,
+// common practice). It is added only at a stall, so a gradient far above
+// it still ends the run as stalled.
+func penaltyI10LBFGSAnalyticRoundingFloor(x, g, e *[10]float64, diffs *penaltyI10LBFGSAnalyticDifferences) {
+	var h [10]float64
+	penaltyI10LBFGSAnalyticDiagonalCurvature(x, g, diffs, &h)
+	for i := range e {
+		e[i] += 4 * penaltyI10LBFGSAnalyticUnitRoundoff * penaltyI10LBFGSAnalyticAbs(x[i]) * h[i]
+	}
+}
+
+// penaltyI10LBFGSAnalyticDiagonalCurvature estimates each |∂²f/∂xᵢ²| from the analytic gradient
+// at x + δᵢeᵢ, δᵢ = √u·max(1, |xᵢ|): dim gradient calls and no objective
+// call (a forward difference of the gradient, Nocedal & Wright 2006,
+// §8.1).
+func penaltyI10LBFGSAnalyticDiagonalCurvature(x, g *[10]float64, diffs *penaltyI10LBFGSAnalyticDifferences, h *[10]float64) {
+	probe := *x
+	var moved [10]float64
+	for i := range probe {
+		xi := probe[i]
+		up, delta := penaltyI10LBFGSAnalyticProbeStep(xi, penaltyI10LBFGSAnalyticSquareRoot(penaltyI10LBFGSAnalyticUnitRoundoff)*penaltyI10LBFGSAnalyticLarger(1, penaltyI10LBFGSAnalyticAbs(xi)))
+		probe[i] = up
+		PenaltyI10Grad(&probe, &moved)
+		h[i] = penaltyI10LBFGSAnalyticAbs(moved[i]-g[i]) / delta
+		probe[i] = xi
+	}
+}
+
+// penaltyI10LBFGSAnalyticProbeStep returns x_i moved by h, and the step actually representable.
+func penaltyI10LBFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
+	moved := xi + h
+	return moved, moved - xi
+}
+
+// penaltyI10LBFGSAnalyticSquareRoot returns √v.
+func penaltyI10LBFGSAnalyticSquareRoot(v float64) float64 {
+	return math.Sqrt(v)
 }
 
 // penaltyI10LBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
@@ -458,7 +700,7 @@ func penaltyI10LBFGSAnalyticTinyStep(x, d *[10]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func penaltyI10LBFGSAnalyticLineSearch(x *[10]float64, fx float64, d *[10]float64, slope, first, tiny float64, budget int, xt, gt *[10]float64) penaltyI10LBFGSAnalyticLineResult {
+func penaltyI10LBFGSAnalyticLineSearch(x *[10]float64, fx float64, d *[10]float64, slope, first, tiny float64, budget int, xt, gt *[10]float64, diffs *penaltyI10LBFGSAnalyticDifferences) penaltyI10LBFGSAnalyticLineResult {
 	low := penaltyI10LBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyI10LBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                      // ∇f at low, kept for accepting low from a collapsed bracket
@@ -490,7 +732,7 @@ func penaltyI10LBFGSAnalyticLineSearch(x *[10]float64, fx float64, d *[10]float6
 			if calls+penaltyI10LBFGSAnalyticDerivativeCost > budget {
 				return penaltyI10LBFGSAnalyticLineResult{calls: calls, end: penaltyI10LBFGSAnalyticSearchOutOfBudget}
 			}
-			penaltyI10LBFGSAnalyticDerivative(xt, current.value, gt)
+			penaltyI10LBFGSAnalyticDerivative(xt, current.value, gt, diffs)
 			calls += penaltyI10LBFGSAnalyticDerivativeCost
 			current.slope, current.hasSlope = penaltyI10LBFGSAnalyticDot(gt, d), true
 			switch {
@@ -515,7 +757,7 @@ func penaltyI10LBFGSAnalyticLineSearch(x *[10]float64, fx float64, d *[10]float6
 	if low.step > 0 {
 		return penaltyI10LBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
 	}
-	return penaltyI10LBFGSAnalyticLineResult{calls: calls, end: penaltyI10LBFGSAnalyticSearchExhausted}
+	return penaltyI10LBFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: penaltyI10LBFGSAnalyticSearchExhausted}
 }
 
 // penaltyI10LBFGSAnalyticLineResult is what a line search reports to the kernel.
@@ -616,6 +858,7 @@ const (
 	penaltyI10LBFGSAnalyticSearchExhausted                                           // penaltyI10LBFGSAnalyticStepTrials trials met none
 	penaltyI10LBFGSAnalyticSearchOutOfBudget                                         // the evaluation cap came first
 	penaltyI10LBFGSAnalyticSearchTiny                                                // every step longer than tiny failed to decrease f
+	penaltyI10LBFGSAnalyticSearchDiverged                                            // a fixed step's value overflowed
 )
 
 // penaltyI10LBFGSAnalyticAcceptLow ends a Wolfe search with its best trial, which met sufficient
@@ -681,11 +924,6 @@ func penaltyI10LBFGSAnalyticModelMinimizer(a, b *penaltyI10LBFGSAnalyticLinePoin
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, penaltyI10LBFGSAnalyticFinite(t)
-}
-
-// penaltyI10LBFGSAnalyticSquareRoot returns √v.
-func penaltyI10LBFGSAnalyticSquareRoot(v float64) float64 {
-	return math.Sqrt(v)
 }
 
 // penaltyI10LBFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in

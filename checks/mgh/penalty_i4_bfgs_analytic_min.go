@@ -8,10 +8,10 @@ import "math"
 type PenaltyI4BFGSAnalyticStatus uint8
 
 const (
-	// PenaltyI4BFGSAnalyticGradientSmall: the largest gradient component fell to the gradient limit: converged.
+	// PenaltyI4BFGSAnalyticGradientSmall: the gradient test holds at X: its measure, with the differences' error bound when they are used, is at most the gradient limit: converged.
 	PenaltyI4BFGSAnalyticGradientSmall PenaltyI4BFGSAnalyticStatus = iota + 1
-	// PenaltyI4BFGSAnalyticStepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f: converged.
-	PenaltyI4BFGSAnalyticStepTiny
+	// PenaltyI4BFGSAnalyticStalled: the step test ended the run, or no step longer than the step limit decreased f, while the gradient test still fails: X is as far as the run could get, not a verified minimizer.
+	PenaltyI4BFGSAnalyticStalled
 	// PenaltyI4BFGSAnalyticOutOfIterations: the iteration limit came first.
 	PenaltyI4BFGSAnalyticOutOfIterations
 	// PenaltyI4BFGSAnalyticOutOfEvaluations: the next objective call would have exceeded the evaluation cap.
@@ -22,8 +22,10 @@ const (
 	PenaltyI4BFGSAnalyticNonFiniteStart
 	// PenaltyI4BFGSAnalyticNonFiniteGradient: a gradient component became NaN or ±Inf.
 	PenaltyI4BFGSAnalyticNonFiniteGradient
-	// PenaltyI4BFGSAnalyticNoDecrease: no step longer than the step limit decreased f, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test).
+	// PenaltyI4BFGSAnalyticNoDecrease: the line search found no acceptable step, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test).
 	PenaltyI4BFGSAnalyticNoDecrease
+	// PenaltyI4BFGSAnalyticDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
+	PenaltyI4BFGSAnalyticDiverged
 )
 
 // String describes the status in a few words.
@@ -31,8 +33,8 @@ func (s PenaltyI4BFGSAnalyticStatus) String() string {
 	switch s {
 	case PenaltyI4BFGSAnalyticGradientSmall:
 		return "gradient small"
-	case PenaltyI4BFGSAnalyticStepTiny:
-		return "step tiny"
+	case PenaltyI4BFGSAnalyticStalled:
+		return "stalled"
 	case PenaltyI4BFGSAnalyticOutOfIterations:
 		return "out of iterations"
 	case PenaltyI4BFGSAnalyticOutOfEvaluations:
@@ -45,28 +47,32 @@ func (s PenaltyI4BFGSAnalyticStatus) String() string {
 		return "non-finite gradient"
 	case PenaltyI4BFGSAnalyticNoDecrease:
 		return "no decrease"
+	case PenaltyI4BFGSAnalyticDiverged:
+		return "diverged"
 	default:
 		return "unknown status"
 	}
 }
 
-// Converged reports whether a convergence test, on the gradient or on the step, ended the run; limits, line-search failure and non-finite values are not convergence.
+// Converged reports whether the gradient test holds at X (Gradient ≤ GradientLimit in the result): only then is X a verified stationary point; a stall, the limits, line-search failure and non-finite values are not convergence.
 func (s PenaltyI4BFGSAnalyticStatus) Converged() bool {
-	return s == PenaltyI4BFGSAnalyticGradientSmall || s == PenaltyI4BFGSAnalyticStepTiny
+	return s == PenaltyI4BFGSAnalyticGradientSmall
 }
 
 // PenaltyI4BFGSAnalyticResult is where PenaltyI4BFGSAnalytic stopped and why.
 type PenaltyI4BFGSAnalyticResult struct {
-	X           [4]float64                  // the last accepted point, the best one found
-	F           float64                     // the objective at X
-	Iterations  int                         // accepted steps
-	Evaluations int                         // objective calls, finite differences included
-	Status      PenaltyI4BFGSAnalyticStatus // why the run stopped; check Status.Converged()
+	X             [4]float64                  // where the gradient test held, when converged; else the lowest point seen
+	F             float64                     // the objective at X
+	Gradient      float64                     // the gradient test's measure at X, the differences' error bound included; NaN when the run ended before the gradient at X was known
+	GradientLimit float64                     // the limit Gradient was held to: Limits.Gradient, raised with differences to ten times the measure of their error bound; converged runs have Gradient ≤ GradientLimit
+	Iterations    int                         // accepted steps
+	Evaluations   int                         // objective calls, finite differences included
+	Status        PenaltyI4BFGSAnalyticStatus // why the run stopped; check Status.Converged()
 }
 
 // PenaltyI4BFGSAnalyticLimits are the stop limits of one run. Pass them to PenaltyI4BFGSAnalyticWithLimits to change them at run time; PenaltyI4BFGSAnalyticDefaultLimits returns the spec's.
 type PenaltyI4BFGSAnalyticLimits struct {
-	Gradient    float64 // stop when the largest |∂f/∂xᵢ| is at most this
+	Gradient    float64 // stop, converged, when the gradient test's measure is at most this (with differences, at most ten times the measure of their error bound where that is larger)
 	Step        float64 // stop when every |Δxᵢ| is at most this·(|xᵢ| + 1)
 	Iterations  int     // most accepted steps
 	Evaluations int     // hard cap on objective calls, finite differences included; never exceeded
@@ -87,10 +93,11 @@ func PenaltyI4BFGSAnalyticDefaultLimits() PenaltyI4BFGSAnalyticLimits {
 // Direction bfgs: BFGS quasi-Newton with a dense inverse-Hessian approximation (dim² numbers).
 // Step rule wolfe: bracket and zoom until sufficient decrease and the curvature condition hold.
 // Derivative analytic: the user's own gradient function (spec key `gradient`); costs no objective calls.
+// Gradient test relative: max over i of (|∂f/∂xᵢ| + eᵢ)·max(|xᵢ|, 1)/max(|f(x)|, 1), eᵢ the error bound of differences (0 for an analytic gradient).
 // Constants: initial 1.0, c1 0.0001, c2 0.9, at most 48 trials per line search.
-// Default stop: largest gradient component ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
+// Default stop: gradient measure ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
 //
-// Worst case: 200000 objective calls (the evaluation cap; the iteration limit alone would allow 240001). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
+// Worst case: 200000 objective calls (the evaluation cap; the iteration limit alone would allow 240049). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
 func PenaltyI4BFGSAnalytic(x0 [4]float64) PenaltyI4BFGSAnalyticResult {
 	return PenaltyI4BFGSAnalyticWithLimits(x0, PenaltyI4BFGSAnalyticDefaultLimits())
@@ -100,11 +107,13 @@ func PenaltyI4BFGSAnalytic(x0 [4]float64) PenaltyI4BFGSAnalyticResult {
 func PenaltyI4BFGSAnalyticWithLimits(x0 [4]float64, limits PenaltyI4BFGSAnalyticLimits) PenaltyI4BFGSAnalyticResult {
 	out := penaltyI4BFGSAnalyticMinimize(x0, limits)
 	return PenaltyI4BFGSAnalyticResult{
-		Evaluations: out.evaluations,
-		F:           out.f,
-		Iterations:  out.iterations,
-		Status:      out.status,
-		X:           out.x,
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
 	}
 }
 
@@ -121,22 +130,36 @@ const (
 
 // penaltyI4BFGSAnalyticMinimize runs the descent loop from x0 within lim:
 //
-//  1. stop when the largest gradient component is at most lim.Gradient;
+//  1. stop, converged, when the gradient measure (penaltyI4BFGSAnalyticGradientMeasure, error
+//     bound of differences included) is at most the limit: lim.Gradient,
+//     or three times the measure of the differences' error bound when that is
+//     larger, so that the limit can be met (the floor the test can see);
+//     differences confirm it first (penaltyI4BFGSAnalyticConfirmGradient);
 //  2. stop after lim.Iterations accepted steps;
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
-//  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged,
-//     unless f contradicts an analytic gradient: no decrease);
+//  4. search along d; stop when no trial is acceptable or only steps
+//     shorter than the step limit are left to try: stalled, or no
+//     decrease when f contradicts an analytic gradient (see penaltyI4BFGSAnalyticRiseTrend);
 //  5. move, refresh the gradient, let the direction learn from the step;
-//  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
+//  6. stop, stalled, when every |Δx_i| is at most lim.Step·(|x_i| + 1) while
+//     the gradient test still fails. At a stall the run settles first
+//     (settle): the error bound gains the rounding floor of x, with
+//     differences confirmed, and the limit rises to ten times the larger
+//     of lim.Gradient and the bound's measure; a gradient within that is
+//     as small as this point can show, and the run is converged with that
+//     limit, which it reports.
 //
-// Before every objective call it checks that lim.Evaluations leaves room
-// for it, so the cap is never exceeded. A NaN or ±Inf at the start or in a
+// Only step 1 is convergence: the first-order test holds at X. Before
+// every objective call it checks that lim.Evaluations leaves room for it,
+// so the cap is never exceeded. A NaN or ±Inf at the start or in a
 // gradient ends the run with its own status; a non-finite trial value is
-// rejected by the line search like any failed trial.
+// rejected by the line search like any failed trial. X is the best point
+// seen unless the run converged, which it did at X. A fixed step whose
+// value overflows, or that raised f above f(x0) at eight steps in a row,
+// ends the run as diverged (common practice for a divergence test).
 func penaltyI4BFGSAnalyticMinimize(x0 [4]float64, lim PenaltyI4BFGSAnalyticLimits) penaltyI4BFGSAnalyticOutcome {
-	out := penaltyI4BFGSAnalyticOutcome{x: x0, status: PenaltyI4BFGSAnalyticOutOfEvaluations}
+	out := penaltyI4BFGSAnalyticOutcome{x: x0, status: PenaltyI4BFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
@@ -147,11 +170,14 @@ func penaltyI4BFGSAnalyticMinimize(x0 [4]float64, lim PenaltyI4BFGSAnalyticLimit
 		out.status = PenaltyI4BFGSAnalyticNonFiniteStart
 		return out
 	}
-	if out.evaluations+penaltyI4BFGSAnalyticDerivativeCost > lim.Evaluations {
+	var diffs penaltyI4BFGSAnalyticDifferences
+	calls, ok := penaltyI4BFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
+	out.evaluations += calls
+	if !ok || out.evaluations+penaltyI4BFGSAnalyticDerivativeCost > lim.Evaluations {
 		return out
 	}
-	var g [4]float64
-	penaltyI4BFGSAnalyticDerivative(&x, fx, &g)
+	var g, e [4]float64
+	penaltyI4BFGSAnalyticDerivative(&x, fx, &g, &diffs)
 	out.evaluations += penaltyI4BFGSAnalyticDerivativeCost
 
 	if !penaltyI4BFGSAnalyticFiniteVec(&g) {
@@ -162,21 +188,76 @@ func penaltyI4BFGSAnalyticMinimize(x0 [4]float64, lim PenaltyI4BFGSAnalyticLimit
 	dir.reset()
 	var d, xt, gt, s, y [4]float64
 	t, slope := float64(penaltyI4BFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
+	best := out                                                       // the lowest point seen, for runs that end unconverged
+	start, rises := fx, 0                                             // f(x0), and consecutive accepted steps that raised f above it
+	confirmed := false                                                // whether g and e at x come from penaltyI4BFGSAnalyticConfirmGradient
+	stalled := false                                                  // whether the run can make no more progress at x
+	retried := -1                                                     // the iteration whose stall was retried with recalibrated differences
 	for {
-		if penaltyI4BFGSAnalyticMaxAbs(&g) <= lim.Gradient {
+		if !confirmed {
+			penaltyI4BFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
+		}
+		measure, floor := penaltyI4BFGSAnalyticGradientMeasure(&g, &e, &x, fx)
+		out.gradient, out.gradientLimit = measure, penaltyI4BFGSAnalyticLarger(lim.Gradient, 3*floor)
+		if stalled {
+			// No step can make progress here: the gradient is as small as
+			// this point shows it, within ten times the limit or the floor.
+			out.gradientLimit = 10 * penaltyI4BFGSAnalyticLarger(lim.Gradient, floor)
+		}
+		if out.f <= best.f {
+			best = out
+		}
+		if measure <= out.gradientLimit && (penaltyI4BFGSAnalyticDerivativeCost == 0 || confirmed) {
 			out.status = PenaltyI4BFGSAnalyticGradientSmall
 			return out
 		}
-		if out.iterations > 0 {
+		if measure <= out.gradientLimit {
+			// Differences pass the test: confirm it with intervals chosen
+			// here and an error measured rather than modelled.
+			calls, ok := penaltyI4BFGSAnalyticConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(PenaltyI4BFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !penaltyI4BFGSAnalyticFiniteVec(&g) {
+				return best.ending(PenaltyI4BFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			confirmed = true
+			continue
+		}
+		if stalled {
+			// Settled and still above the limit: stalled, unless
+			// differences, whose intervals were just chosen here, can
+			// search once more with the better gradient.
+			if penaltyI4BFGSAnalyticDerivativeCost == 0 {
+				return best.ending(PenaltyI4BFGSAnalyticStalled, out.iterations, out.evaluations)
+			}
+			stalled, retried = false, out.iterations
+		}
+		// At a stall, settle first: the run is converged if the gradient
+		// is zero to the rounding of x (and, with differences, to their
+		// accuracy, confirmed); see settle.
+		canSettle := retried != out.iterations
+		if out.iterations > 0 && canSettle {
 			if penaltyI4BFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				out.status = PenaltyI4BFGSAnalyticStepTiny
-				return out
+				calls, ok := penaltyI4BFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+				out.evaluations += calls
+				if !ok {
+					return best.ending(PenaltyI4BFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+				}
+				if !penaltyI4BFGSAnalyticFiniteVec(&g) {
+					return best.ending(PenaltyI4BFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+				}
+				stalled, confirmed = true, true
+				continue
+			}
+			if rises >= 8 {
+				return best.ending(PenaltyI4BFGSAnalyticDiverged, out.iterations, out.evaluations)
 			}
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
-			out.status = PenaltyI4BFGSAnalyticOutOfIterations
-			return out
+			return best.ending(PenaltyI4BFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
 		}
 		dir.compute(&g, &d)
 		now := penaltyI4BFGSAnalyticDot(&g, &d)
@@ -190,50 +271,70 @@ func penaltyI4BFGSAnalyticMinimize(x0 [4]float64, lim PenaltyI4BFGSAnalyticLimit
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := penaltyI4BFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := penaltyI4BFGSAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt)
+		found := penaltyI4BFGSAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case penaltyI4BFGSAnalyticSearchOutOfBudget:
-			return out
-		case penaltyI4BFGSAnalyticSearchExhausted:
-			out.status = PenaltyI4BFGSAnalyticNoAcceptableStep
-			return out
-		case penaltyI4BFGSAnalyticSearchTiny:
-			// Converged to the step limit: no step the step test would
-			// reject decreases f. Not so when an analytic gradient is
-			// contradicted by f rising in proportion to the step (see
-			// penaltyI4BFGSAnalyticRiseTrend, which never reports that for differences).
-			out.status = PenaltyI4BFGSAnalyticStepTiny
-			if found.rising {
-				out.status = PenaltyI4BFGSAnalyticNoDecrease
+			return best.ending(PenaltyI4BFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+		case penaltyI4BFGSAnalyticSearchDiverged:
+			return best.ending(PenaltyI4BFGSAnalyticDiverged, out.iterations, out.evaluations)
+		case penaltyI4BFGSAnalyticSearchExhausted, penaltyI4BFGSAnalyticSearchTiny:
+			// No acceptable step. When an analytic gradient predicted a
+			// fall that f contradicted in proportion to the step, the
+			// gradient is probably wrong (see penaltyI4BFGSAnalyticRiseTrend, which never
+			// reports that for differences); otherwise the search stalled
+			// below the step limit, or ran out of trials.
+			end := PenaltyI4BFGSAnalyticNoAcceptableStep
+			switch {
+			case found.rising:
+				end = PenaltyI4BFGSAnalyticNoDecrease
+			case found.end == penaltyI4BFGSAnalyticSearchTiny && canSettle:
+				calls, ok := penaltyI4BFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+				out.evaluations += calls
+				if !ok {
+					return best.ending(PenaltyI4BFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+				}
+				if !penaltyI4BFGSAnalyticFiniteVec(&g) {
+					return best.ending(PenaltyI4BFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+				}
+				stalled, confirmed = true, true
+				continue
+			case found.end == penaltyI4BFGSAnalyticSearchTiny:
+				end = PenaltyI4BFGSAnalyticStalled
 			}
-			return out
+			return best.ending(end, out.iterations, out.evaluations)
 		}
 		if !penaltyI4BFGSAnalyticFiniteVec(&xt) {
-			out.status = PenaltyI4BFGSAnalyticNoAcceptableStep // the accepted trial overflowed x
-			return out
+			return best.ending(PenaltyI4BFGSAnalyticNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
 		}
 		if !found.gradient {
 			if out.evaluations+penaltyI4BFGSAnalyticDerivativeCost > lim.Evaluations {
-				if found.value < fx { // keep a better point even without its gradient
-					out.x, out.f = xt, found.value
+				if found.value < best.f { // keep a better point even without its gradient
+					best.x, best.f, best.gradient = xt, found.value, math.NaN()
 					out.iterations++
 				}
-				return out
+				return best.ending(PenaltyI4BFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			penaltyI4BFGSAnalyticDerivative(&xt, found.value, &gt)
+			penaltyI4BFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
 			out.evaluations += penaltyI4BFGSAnalyticDerivativeCost
 		}
 		out.iterations++
 		penaltyI4BFGSAnalyticDifference(&s, &xt, &x)
 		penaltyI4BFGSAnalyticDifference(&y, &gt, &g)
-		x, fx, g = xt, found.value, gt
-		out.x, out.f = x, fx
+		if found.value > fx && found.value > start {
+			rises++
+		} else {
+			rises = 0
+		}
+		x, fx, g, confirmed = xt, found.value, gt, false
+		out.x, out.f, out.gradient = x, fx, math.NaN()
 		t, slope = found.step, now
 
 		if !penaltyI4BFGSAnalyticFiniteVec(&g) {
-			out.status = PenaltyI4BFGSAnalyticNonFiniteGradient
-			return out
+			if out.f < best.f {
+				best = out
+			}
+			return best.ending(PenaltyI4BFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
 		}
 	}
 }
@@ -241,11 +342,19 @@ func penaltyI4BFGSAnalyticMinimize(x0 [4]float64, lim PenaltyI4BFGSAnalyticLimit
 // penaltyI4BFGSAnalyticOutcome is the kernel's report; the generated entry point copies it into
 // the spec's result type.
 type penaltyI4BFGSAnalyticOutcome struct {
-	x           [4]float64
-	f           float64
-	iterations  int
-	evaluations int
-	status      PenaltyI4BFGSAnalyticStatus
+	x             [4]float64
+	f             float64
+	gradient      float64 // the stop test's measure at x, error bound included; NaN when not known
+	gradientLimit float64 // the limit that measure was held to
+	iterations    int
+	evaluations   int
+	status        PenaltyI4BFGSAnalyticStatus
+}
+
+// ending is the best point seen, reported with the run's end and counts.
+func (o penaltyI4BFGSAnalyticOutcome) ending(end PenaltyI4BFGSAnalyticStatus, iterations, evaluations int) penaltyI4BFGSAnalyticOutcome {
+	o.status, o.iterations, o.evaluations = end, iterations, evaluations
+	return o
 }
 
 // penaltyI4BFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
@@ -270,8 +379,24 @@ func penaltyI4BFGSAnalyticFiniteVec(x *[4]float64) bool {
 	return true
 }
 
+// penaltyI4BFGSAnalyticDifferences is what the difference gradients learn from the objective
+// at the start: for each coordinate i, the interval as a multiple of
+// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
+// forward differences, |f‴| for central ones). The analytic gradient
+// leaves it unused.
+type penaltyI4BFGSAnalyticDifferences struct {
+	ratio     [4]float64
+	curvature [4]float64
+	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see penaltyI4BFGSAnalyticRoundingFloor)
+}
+
+// penaltyI4BFGSAnalyticCalibrate: an analytic gradient needs no intervals.
+func penaltyI4BFGSAnalyticCalibrate(x *[4]float64, fx float64, diffs *penaltyI4BFGSAnalyticDifferences, budget int) (int, bool) {
+	return 0, true
+}
+
 // penaltyI4BFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func penaltyI4BFGSAnalyticDerivative(x *[4]float64, fx float64, g *[4]float64) {
+func penaltyI4BFGSAnalyticDerivative(x *[4]float64, fx float64, g *[4]float64, diffs *penaltyI4BFGSAnalyticDifferences) {
 	PenaltyI4Grad(x, g)
 }
 
@@ -365,15 +490,43 @@ func penaltyI4BFGSAnalyticCurvatureSafe(s, y *[4]float64) bool {
 	return sy > 0 && (sy/penaltyI4BFGSAnalyticDot(s, s))*(sy/penaltyI4BFGSAnalyticDot(y, y)) > penaltyI4BFGSAnalyticUnitRoundoff
 }
 
-// penaltyI4BFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
-func penaltyI4BFGSAnalyticMaxAbs(x *[4]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := penaltyI4BFGSAnalyticAbs(x[i]); a > m || a != a {
-			m = a
-		}
+// penaltyI4BFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func penaltyI4BFGSAnalyticGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *penaltyI4BFGSAnalyticDifferences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return m
+}
+
+// penaltyI4BFGSAnalyticGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func penaltyI4BFGSAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
+	scale := penaltyI4BFGSAnalyticLarger(penaltyI4BFGSAnalyticAbs(fx), 1)
+	for i := range g {
+		w := penaltyI4BFGSAnalyticLarger(penaltyI4BFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = penaltyI4BFGSAnalyticLarger(measure, (penaltyI4BFGSAnalyticAbs(g[i])+e[i])*w)
+		floor = penaltyI4BFGSAnalyticLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// penaltyI4BFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func penaltyI4BFGSAnalyticLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
 }
 
 // penaltyI4BFGSAnalyticAbs returns |v|.
@@ -382,6 +535,36 @@ func penaltyI4BFGSAnalyticAbs(v float64) float64 {
 		return -v
 	}
 	return v
+}
+
+// penaltyI4BFGSAnalyticConfirmGradient recomputes a difference gradient at x before the run is
+// called converged there: it chooses the intervals again from the
+// curvature at x (calibrate), computes g with them and with twice them,
+// and bounds each component's error by the model (penaltyI4BFGSAnalyticGradientError) plus
+// three times the change the doubling made. That change measures what the
+// model can miss, truncation from curvature that varies and rounding
+// noise above 4u·|f|; as one sample of that noise it is tripled
+// (Richardson's idea of comparing two intervals; the factor is common
+// practice for a posteriori error estimates). It costs a calibration and two
+// gradients, and returns the calls spent and false when budget ran out
+// first.
+func penaltyI4BFGSAnalyticConfirmGradient(x *[4]float64, fx float64, g, e *[4]float64, diffs *penaltyI4BFGSAnalyticDifferences, budget int) (int, bool) {
+	calls, ok := penaltyI4BFGSAnalyticCalibrate(x, fx, diffs, budget)
+	if !ok || calls+2*penaltyI4BFGSAnalyticDerivativeCost > budget {
+		return calls, false
+	}
+	wide := *diffs
+	for i := range wide.ratio {
+		wide.ratio[i] *= 2
+	}
+	var doubled [4]float64
+	penaltyI4BFGSAnalyticDerivative(x, fx, g, diffs)
+	penaltyI4BFGSAnalyticDerivative(x, fx, &doubled, &wide)
+	penaltyI4BFGSAnalyticGradientError(x, fx, g, e, diffs)
+	for i := range e {
+		e[i] += 3 * penaltyI4BFGSAnalyticAbs(g[i]-doubled[i])
+	}
+	return calls + 2*penaltyI4BFGSAnalyticDerivativeCost, true
 }
 
 // penaltyI4BFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
@@ -394,6 +577,65 @@ func penaltyI4BFGSAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
 		}
 	}
 	return true
+}
+
+// penaltyI4BFGSAnalyticSettle prepares the final verdict at a stall: with differences it
+// confirms the gradient (penaltyI4BFGSAnalyticConfirmGradient), then it adds to each error
+// bound the rounding floor of x (penaltyI4BFGSAnalyticRoundingFloor). It returns the objective
+// calls spent and false when budget ran out first.
+func penaltyI4BFGSAnalyticSettle(x *[4]float64, fx float64, g, e *[4]float64, diffs *penaltyI4BFGSAnalyticDifferences, budget int) (int, bool) {
+	calls := 0
+	if penaltyI4BFGSAnalyticDerivativeCost > 0 {
+		spent, ok := penaltyI4BFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
+	}
+	penaltyI4BFGSAnalyticRoundingFloor(x, g, e, diffs)
+	return calls, true
+}
+
+// penaltyI4BFGSAnalyticRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
+// that moving xᵢ by a few of its rounding units makes in gᵢ:
+// where no step the step test resolves decreases f, a gradient that small
+// is zero to the rounding of x (the resolution of x in floating point,
+// common practice). It is added only at a stall, so a gradient far above
+// it still ends the run as stalled.
+func penaltyI4BFGSAnalyticRoundingFloor(x, g, e *[4]float64, diffs *penaltyI4BFGSAnalyticDifferences) {
+	var h [4]float64
+	penaltyI4BFGSAnalyticDiagonalCurvature(x, g, diffs, &h)
+	for i := range e {
+		e[i] += 4 * penaltyI4BFGSAnalyticUnitRoundoff * penaltyI4BFGSAnalyticAbs(x[i]) * h[i]
+	}
+}
+
+// penaltyI4BFGSAnalyticDiagonalCurvature estimates each |∂²f/∂xᵢ²| from the analytic gradient
+// at x + δᵢeᵢ, δᵢ = √u·max(1, |xᵢ|): dim gradient calls and no objective
+// call (a forward difference of the gradient, Nocedal & Wright 2006,
+// §8.1).
+func penaltyI4BFGSAnalyticDiagonalCurvature(x, g *[4]float64, diffs *penaltyI4BFGSAnalyticDifferences, h *[4]float64) {
+	probe := *x
+	var moved [4]float64
+	for i := range probe {
+		xi := probe[i]
+		up, delta := penaltyI4BFGSAnalyticProbeStep(xi, penaltyI4BFGSAnalyticSquareRoot(penaltyI4BFGSAnalyticUnitRoundoff)*penaltyI4BFGSAnalyticLarger(1, penaltyI4BFGSAnalyticAbs(xi)))
+		probe[i] = up
+		PenaltyI4Grad(&probe, &moved)
+		h[i] = penaltyI4BFGSAnalyticAbs(moved[i]-g[i]) / delta
+		probe[i] = xi
+	}
+}
+
+// penaltyI4BFGSAnalyticProbeStep returns x_i moved by h, and the step actually representable.
+func penaltyI4BFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
+	moved := xi + h
+	return moved, moved - xi
+}
+
+// penaltyI4BFGSAnalyticSquareRoot returns √v.
+func penaltyI4BFGSAnalyticSquareRoot(v float64) float64 {
+	return math.Sqrt(v)
 }
 
 // penaltyI4BFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
@@ -432,7 +674,7 @@ func penaltyI4BFGSAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func penaltyI4BFGSAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64) penaltyI4BFGSAnalyticLineResult {
+func penaltyI4BFGSAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *penaltyI4BFGSAnalyticDifferences) penaltyI4BFGSAnalyticLineResult {
 	low := penaltyI4BFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyI4BFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                     // ∇f at low, kept for accepting low from a collapsed bracket
@@ -464,7 +706,7 @@ func penaltyI4BFGSAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64, s
 			if calls+penaltyI4BFGSAnalyticDerivativeCost > budget {
 				return penaltyI4BFGSAnalyticLineResult{calls: calls, end: penaltyI4BFGSAnalyticSearchOutOfBudget}
 			}
-			penaltyI4BFGSAnalyticDerivative(xt, current.value, gt)
+			penaltyI4BFGSAnalyticDerivative(xt, current.value, gt, diffs)
 			calls += penaltyI4BFGSAnalyticDerivativeCost
 			current.slope, current.hasSlope = penaltyI4BFGSAnalyticDot(gt, d), true
 			switch {
@@ -489,7 +731,7 @@ func penaltyI4BFGSAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64, s
 	if low.step > 0 {
 		return penaltyI4BFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
 	}
-	return penaltyI4BFGSAnalyticLineResult{calls: calls, end: penaltyI4BFGSAnalyticSearchExhausted}
+	return penaltyI4BFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: penaltyI4BFGSAnalyticSearchExhausted}
 }
 
 // penaltyI4BFGSAnalyticLineResult is what a line search reports to the kernel.
@@ -590,6 +832,7 @@ const (
 	penaltyI4BFGSAnalyticSearchExhausted                                         // penaltyI4BFGSAnalyticStepTrials trials met none
 	penaltyI4BFGSAnalyticSearchOutOfBudget                                       // the evaluation cap came first
 	penaltyI4BFGSAnalyticSearchTiny                                              // every step longer than tiny failed to decrease f
+	penaltyI4BFGSAnalyticSearchDiverged                                          // a fixed step's value overflowed
 )
 
 // penaltyI4BFGSAnalyticAcceptLow ends a Wolfe search with its best trial, which met sufficient
@@ -655,11 +898,6 @@ func penaltyI4BFGSAnalyticModelMinimizer(a, b *penaltyI4BFGSAnalyticLinePoint) (
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, penaltyI4BFGSAnalyticFinite(t)
-}
-
-// penaltyI4BFGSAnalyticSquareRoot returns √v.
-func penaltyI4BFGSAnalyticSquareRoot(v float64) float64 {
-	return math.Sqrt(v)
 }
 
 // penaltyI4BFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in

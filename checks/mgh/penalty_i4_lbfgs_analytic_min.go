@@ -8,10 +8,10 @@ import "math"
 type PenaltyI4LBFGSAnalyticStatus uint8
 
 const (
-	// PenaltyI4LBFGSAnalyticGradientSmall: the largest gradient component fell to the gradient limit: converged.
+	// PenaltyI4LBFGSAnalyticGradientSmall: the gradient test holds at X: its measure, with the differences' error bound when they are used, is at most the gradient limit: converged.
 	PenaltyI4LBFGSAnalyticGradientSmall PenaltyI4LBFGSAnalyticStatus = iota + 1
-	// PenaltyI4LBFGSAnalyticStepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f: converged.
-	PenaltyI4LBFGSAnalyticStepTiny
+	// PenaltyI4LBFGSAnalyticStalled: the step test ended the run, or no step longer than the step limit decreased f, while the gradient test still fails: X is as far as the run could get, not a verified minimizer.
+	PenaltyI4LBFGSAnalyticStalled
 	// PenaltyI4LBFGSAnalyticOutOfIterations: the iteration limit came first.
 	PenaltyI4LBFGSAnalyticOutOfIterations
 	// PenaltyI4LBFGSAnalyticOutOfEvaluations: the next objective call would have exceeded the evaluation cap.
@@ -22,8 +22,10 @@ const (
 	PenaltyI4LBFGSAnalyticNonFiniteStart
 	// PenaltyI4LBFGSAnalyticNonFiniteGradient: a gradient component became NaN or ±Inf.
 	PenaltyI4LBFGSAnalyticNonFiniteGradient
-	// PenaltyI4LBFGSAnalyticNoDecrease: no step longer than the step limit decreased f, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test).
+	// PenaltyI4LBFGSAnalyticNoDecrease: the line search found no acceptable step, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test).
 	PenaltyI4LBFGSAnalyticNoDecrease
+	// PenaltyI4LBFGSAnalyticDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
+	PenaltyI4LBFGSAnalyticDiverged
 )
 
 // String describes the status in a few words.
@@ -31,8 +33,8 @@ func (s PenaltyI4LBFGSAnalyticStatus) String() string {
 	switch s {
 	case PenaltyI4LBFGSAnalyticGradientSmall:
 		return "gradient small"
-	case PenaltyI4LBFGSAnalyticStepTiny:
-		return "step tiny"
+	case PenaltyI4LBFGSAnalyticStalled:
+		return "stalled"
 	case PenaltyI4LBFGSAnalyticOutOfIterations:
 		return "out of iterations"
 	case PenaltyI4LBFGSAnalyticOutOfEvaluations:
@@ -45,28 +47,32 @@ func (s PenaltyI4LBFGSAnalyticStatus) String() string {
 		return "non-finite gradient"
 	case PenaltyI4LBFGSAnalyticNoDecrease:
 		return "no decrease"
+	case PenaltyI4LBFGSAnalyticDiverged:
+		return "diverged"
 	default:
 		return "unknown status"
 	}
 }
 
-// Converged reports whether a convergence test, on the gradient or on the step, ended the run; limits, line-search failure and non-finite values are not convergence.
+// Converged reports whether the gradient test holds at X (Gradient ≤ GradientLimit in the result): only then is X a verified stationary point; a stall, the limits, line-search failure and non-finite values are not convergence.
 func (s PenaltyI4LBFGSAnalyticStatus) Converged() bool {
-	return s == PenaltyI4LBFGSAnalyticGradientSmall || s == PenaltyI4LBFGSAnalyticStepTiny
+	return s == PenaltyI4LBFGSAnalyticGradientSmall
 }
 
 // PenaltyI4LBFGSAnalyticResult is where PenaltyI4LBFGSAnalytic stopped and why.
 type PenaltyI4LBFGSAnalyticResult struct {
-	X           [4]float64                   // the last accepted point, the best one found
-	F           float64                      // the objective at X
-	Iterations  int                          // accepted steps
-	Evaluations int                          // objective calls, finite differences included
-	Status      PenaltyI4LBFGSAnalyticStatus // why the run stopped; check Status.Converged()
+	X             [4]float64                   // where the gradient test held, when converged; else the lowest point seen
+	F             float64                      // the objective at X
+	Gradient      float64                      // the gradient test's measure at X, the differences' error bound included; NaN when the run ended before the gradient at X was known
+	GradientLimit float64                      // the limit Gradient was held to: Limits.Gradient, raised with differences to ten times the measure of their error bound; converged runs have Gradient ≤ GradientLimit
+	Iterations    int                          // accepted steps
+	Evaluations   int                          // objective calls, finite differences included
+	Status        PenaltyI4LBFGSAnalyticStatus // why the run stopped; check Status.Converged()
 }
 
 // PenaltyI4LBFGSAnalyticLimits are the stop limits of one run. Pass them to PenaltyI4LBFGSAnalyticWithLimits to change them at run time; PenaltyI4LBFGSAnalyticDefaultLimits returns the spec's.
 type PenaltyI4LBFGSAnalyticLimits struct {
-	Gradient    float64 // stop when the largest |∂f/∂xᵢ| is at most this
+	Gradient    float64 // stop, converged, when the gradient test's measure is at most this (with differences, at most ten times the measure of their error bound where that is larger)
 	Step        float64 // stop when every |Δxᵢ| is at most this·(|xᵢ| + 1)
 	Iterations  int     // most accepted steps
 	Evaluations int     // hard cap on objective calls, finite differences included; never exceeded
@@ -87,10 +93,11 @@ func PenaltyI4LBFGSAnalyticDefaultLimits() PenaltyI4LBFGSAnalyticLimits {
 // Direction lbfgs: limited-memory BFGS: the last `memory` pairs, two-loop recursion (2·memory·dim numbers).
 // Step rule wolfe: bracket and zoom until sufficient decrease and the curvature condition hold.
 // Derivative analytic: the user's own gradient function (spec key `gradient`); costs no objective calls.
+// Gradient test relative: max over i of (|∂f/∂xᵢ| + eᵢ)·max(|xᵢ|, 1)/max(|f(x)|, 1), eᵢ the error bound of differences (0 for an analytic gradient).
 // Constants: initial 1.0, c1 0.0001, c2 0.9, at most 48 trials per line search, memory 5 pairs.
-// Default stop: largest gradient component ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
+// Default stop: gradient measure ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
 //
-// Worst case: 200000 objective calls (the evaluation cap; the iteration limit alone would allow 240001). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
+// Worst case: 200000 objective calls (the evaluation cap; the iteration limit alone would allow 240049). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
 func PenaltyI4LBFGSAnalytic(x0 [4]float64) PenaltyI4LBFGSAnalyticResult {
 	return PenaltyI4LBFGSAnalyticWithLimits(x0, PenaltyI4LBFGSAnalyticDefaultLimits())
@@ -100,11 +107,13 @@ func PenaltyI4LBFGSAnalytic(x0 [4]float64) PenaltyI4LBFGSAnalyticResult {
 func PenaltyI4LBFGSAnalyticWithLimits(x0 [4]float64, limits PenaltyI4LBFGSAnalyticLimits) PenaltyI4LBFGSAnalyticResult {
 	out := penaltyI4LBFGSAnalyticMinimize(x0, limits)
 	return PenaltyI4LBFGSAnalyticResult{
-		Evaluations: out.evaluations,
-		F:           out.f,
-		Iterations:  out.iterations,
-		Status:      out.status,
-		X:           out.x,
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
 	}
 }
 
@@ -122,22 +131,36 @@ const (
 
 // penaltyI4LBFGSAnalyticMinimize runs the descent loop from x0 within lim:
 //
-//  1. stop when the largest gradient component is at most lim.Gradient;
+//  1. stop, converged, when the gradient measure (penaltyI4LBFGSAnalyticGradientMeasure, error
+//     bound of differences included) is at most the limit: lim.Gradient,
+//     or three times the measure of the differences' error bound when that is
+//     larger, so that the limit can be met (the floor the test can see);
+//     differences confirm it first (penaltyI4LBFGSAnalyticConfirmGradient);
 //  2. stop after lim.Iterations accepted steps;
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
-//  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged,
-//     unless f contradicts an analytic gradient: no decrease);
+//  4. search along d; stop when no trial is acceptable or only steps
+//     shorter than the step limit are left to try: stalled, or no
+//     decrease when f contradicts an analytic gradient (see penaltyI4LBFGSAnalyticRiseTrend);
 //  5. move, refresh the gradient, let the direction learn from the step;
-//  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
+//  6. stop, stalled, when every |Δx_i| is at most lim.Step·(|x_i| + 1) while
+//     the gradient test still fails. At a stall the run settles first
+//     (settle): the error bound gains the rounding floor of x, with
+//     differences confirmed, and the limit rises to ten times the larger
+//     of lim.Gradient and the bound's measure; a gradient within that is
+//     as small as this point can show, and the run is converged with that
+//     limit, which it reports.
 //
-// Before every objective call it checks that lim.Evaluations leaves room
-// for it, so the cap is never exceeded. A NaN or ±Inf at the start or in a
+// Only step 1 is convergence: the first-order test holds at X. Before
+// every objective call it checks that lim.Evaluations leaves room for it,
+// so the cap is never exceeded. A NaN or ±Inf at the start or in a
 // gradient ends the run with its own status; a non-finite trial value is
-// rejected by the line search like any failed trial.
+// rejected by the line search like any failed trial. X is the best point
+// seen unless the run converged, which it did at X. A fixed step whose
+// value overflows, or that raised f above f(x0) at eight steps in a row,
+// ends the run as diverged (common practice for a divergence test).
 func penaltyI4LBFGSAnalyticMinimize(x0 [4]float64, lim PenaltyI4LBFGSAnalyticLimits) penaltyI4LBFGSAnalyticOutcome {
-	out := penaltyI4LBFGSAnalyticOutcome{x: x0, status: PenaltyI4LBFGSAnalyticOutOfEvaluations}
+	out := penaltyI4LBFGSAnalyticOutcome{x: x0, status: PenaltyI4LBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
@@ -148,11 +171,14 @@ func penaltyI4LBFGSAnalyticMinimize(x0 [4]float64, lim PenaltyI4LBFGSAnalyticLim
 		out.status = PenaltyI4LBFGSAnalyticNonFiniteStart
 		return out
 	}
-	if out.evaluations+penaltyI4LBFGSAnalyticDerivativeCost > lim.Evaluations {
+	var diffs penaltyI4LBFGSAnalyticDifferences
+	calls, ok := penaltyI4LBFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
+	out.evaluations += calls
+	if !ok || out.evaluations+penaltyI4LBFGSAnalyticDerivativeCost > lim.Evaluations {
 		return out
 	}
-	var g [4]float64
-	penaltyI4LBFGSAnalyticDerivative(&x, fx, &g)
+	var g, e [4]float64
+	penaltyI4LBFGSAnalyticDerivative(&x, fx, &g, &diffs)
 	out.evaluations += penaltyI4LBFGSAnalyticDerivativeCost
 
 	if !penaltyI4LBFGSAnalyticFiniteVec(&g) {
@@ -163,21 +189,76 @@ func penaltyI4LBFGSAnalyticMinimize(x0 [4]float64, lim PenaltyI4LBFGSAnalyticLim
 	dir.reset()
 	var d, xt, gt, s, y [4]float64
 	t, slope := float64(penaltyI4LBFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
+	best := out                                                        // the lowest point seen, for runs that end unconverged
+	start, rises := fx, 0                                              // f(x0), and consecutive accepted steps that raised f above it
+	confirmed := false                                                 // whether g and e at x come from penaltyI4LBFGSAnalyticConfirmGradient
+	stalled := false                                                   // whether the run can make no more progress at x
+	retried := -1                                                      // the iteration whose stall was retried with recalibrated differences
 	for {
-		if penaltyI4LBFGSAnalyticMaxAbs(&g) <= lim.Gradient {
+		if !confirmed {
+			penaltyI4LBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
+		}
+		measure, floor := penaltyI4LBFGSAnalyticGradientMeasure(&g, &e, &x, fx)
+		out.gradient, out.gradientLimit = measure, penaltyI4LBFGSAnalyticLarger(lim.Gradient, 3*floor)
+		if stalled {
+			// No step can make progress here: the gradient is as small as
+			// this point shows it, within ten times the limit or the floor.
+			out.gradientLimit = 10 * penaltyI4LBFGSAnalyticLarger(lim.Gradient, floor)
+		}
+		if out.f <= best.f {
+			best = out
+		}
+		if measure <= out.gradientLimit && (penaltyI4LBFGSAnalyticDerivativeCost == 0 || confirmed) {
 			out.status = PenaltyI4LBFGSAnalyticGradientSmall
 			return out
 		}
-		if out.iterations > 0 {
+		if measure <= out.gradientLimit {
+			// Differences pass the test: confirm it with intervals chosen
+			// here and an error measured rather than modelled.
+			calls, ok := penaltyI4LBFGSAnalyticConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(PenaltyI4LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !penaltyI4LBFGSAnalyticFiniteVec(&g) {
+				return best.ending(PenaltyI4LBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			confirmed = true
+			continue
+		}
+		if stalled {
+			// Settled and still above the limit: stalled, unless
+			// differences, whose intervals were just chosen here, can
+			// search once more with the better gradient.
+			if penaltyI4LBFGSAnalyticDerivativeCost == 0 {
+				return best.ending(PenaltyI4LBFGSAnalyticStalled, out.iterations, out.evaluations)
+			}
+			stalled, retried = false, out.iterations
+		}
+		// At a stall, settle first: the run is converged if the gradient
+		// is zero to the rounding of x (and, with differences, to their
+		// accuracy, confirmed); see settle.
+		canSettle := retried != out.iterations
+		if out.iterations > 0 && canSettle {
 			if penaltyI4LBFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				out.status = PenaltyI4LBFGSAnalyticStepTiny
-				return out
+				calls, ok := penaltyI4LBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+				out.evaluations += calls
+				if !ok {
+					return best.ending(PenaltyI4LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+				}
+				if !penaltyI4LBFGSAnalyticFiniteVec(&g) {
+					return best.ending(PenaltyI4LBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+				}
+				stalled, confirmed = true, true
+				continue
+			}
+			if rises >= 8 {
+				return best.ending(PenaltyI4LBFGSAnalyticDiverged, out.iterations, out.evaluations)
 			}
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
-			out.status = PenaltyI4LBFGSAnalyticOutOfIterations
-			return out
+			return best.ending(PenaltyI4LBFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
 		}
 		dir.compute(&g, &d)
 		now := penaltyI4LBFGSAnalyticDot(&g, &d)
@@ -191,50 +272,70 @@ func penaltyI4LBFGSAnalyticMinimize(x0 [4]float64, lim PenaltyI4LBFGSAnalyticLim
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := penaltyI4LBFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := penaltyI4LBFGSAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt)
+		found := penaltyI4LBFGSAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case penaltyI4LBFGSAnalyticSearchOutOfBudget:
-			return out
-		case penaltyI4LBFGSAnalyticSearchExhausted:
-			out.status = PenaltyI4LBFGSAnalyticNoAcceptableStep
-			return out
-		case penaltyI4LBFGSAnalyticSearchTiny:
-			// Converged to the step limit: no step the step test would
-			// reject decreases f. Not so when an analytic gradient is
-			// contradicted by f rising in proportion to the step (see
-			// penaltyI4LBFGSAnalyticRiseTrend, which never reports that for differences).
-			out.status = PenaltyI4LBFGSAnalyticStepTiny
-			if found.rising {
-				out.status = PenaltyI4LBFGSAnalyticNoDecrease
+			return best.ending(PenaltyI4LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+		case penaltyI4LBFGSAnalyticSearchDiverged:
+			return best.ending(PenaltyI4LBFGSAnalyticDiverged, out.iterations, out.evaluations)
+		case penaltyI4LBFGSAnalyticSearchExhausted, penaltyI4LBFGSAnalyticSearchTiny:
+			// No acceptable step. When an analytic gradient predicted a
+			// fall that f contradicted in proportion to the step, the
+			// gradient is probably wrong (see penaltyI4LBFGSAnalyticRiseTrend, which never
+			// reports that for differences); otherwise the search stalled
+			// below the step limit, or ran out of trials.
+			end := PenaltyI4LBFGSAnalyticNoAcceptableStep
+			switch {
+			case found.rising:
+				end = PenaltyI4LBFGSAnalyticNoDecrease
+			case found.end == penaltyI4LBFGSAnalyticSearchTiny && canSettle:
+				calls, ok := penaltyI4LBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+				out.evaluations += calls
+				if !ok {
+					return best.ending(PenaltyI4LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+				}
+				if !penaltyI4LBFGSAnalyticFiniteVec(&g) {
+					return best.ending(PenaltyI4LBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+				}
+				stalled, confirmed = true, true
+				continue
+			case found.end == penaltyI4LBFGSAnalyticSearchTiny:
+				end = PenaltyI4LBFGSAnalyticStalled
 			}
-			return out
+			return best.ending(end, out.iterations, out.evaluations)
 		}
 		if !penaltyI4LBFGSAnalyticFiniteVec(&xt) {
-			out.status = PenaltyI4LBFGSAnalyticNoAcceptableStep // the accepted trial overflowed x
-			return out
+			return best.ending(PenaltyI4LBFGSAnalyticNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
 		}
 		if !found.gradient {
 			if out.evaluations+penaltyI4LBFGSAnalyticDerivativeCost > lim.Evaluations {
-				if found.value < fx { // keep a better point even without its gradient
-					out.x, out.f = xt, found.value
+				if found.value < best.f { // keep a better point even without its gradient
+					best.x, best.f, best.gradient = xt, found.value, math.NaN()
 					out.iterations++
 				}
-				return out
+				return best.ending(PenaltyI4LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			penaltyI4LBFGSAnalyticDerivative(&xt, found.value, &gt)
+			penaltyI4LBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
 			out.evaluations += penaltyI4LBFGSAnalyticDerivativeCost
 		}
 		out.iterations++
 		penaltyI4LBFGSAnalyticDifference(&s, &xt, &x)
 		penaltyI4LBFGSAnalyticDifference(&y, &gt, &g)
-		x, fx, g = xt, found.value, gt
-		out.x, out.f = x, fx
+		if found.value > fx && found.value > start {
+			rises++
+		} else {
+			rises = 0
+		}
+		x, fx, g, confirmed = xt, found.value, gt, false
+		out.x, out.f, out.gradient = x, fx, math.NaN()
 		t, slope = found.step, now
 
 		if !penaltyI4LBFGSAnalyticFiniteVec(&g) {
-			out.status = PenaltyI4LBFGSAnalyticNonFiniteGradient
-			return out
+			if out.f < best.f {
+				best = out
+			}
+			return best.ending(PenaltyI4LBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
 		}
 	}
 }
@@ -242,11 +343,19 @@ func penaltyI4LBFGSAnalyticMinimize(x0 [4]float64, lim PenaltyI4LBFGSAnalyticLim
 // penaltyI4LBFGSAnalyticOutcome is the kernel's report; the generated entry point copies it into
 // the spec's result type.
 type penaltyI4LBFGSAnalyticOutcome struct {
-	x           [4]float64
-	f           float64
-	iterations  int
-	evaluations int
-	status      PenaltyI4LBFGSAnalyticStatus
+	x             [4]float64
+	f             float64
+	gradient      float64 // the stop test's measure at x, error bound included; NaN when not known
+	gradientLimit float64 // the limit that measure was held to
+	iterations    int
+	evaluations   int
+	status        PenaltyI4LBFGSAnalyticStatus
+}
+
+// ending is the best point seen, reported with the run's end and counts.
+func (o penaltyI4LBFGSAnalyticOutcome) ending(end PenaltyI4LBFGSAnalyticStatus, iterations, evaluations int) penaltyI4LBFGSAnalyticOutcome {
+	o.status, o.iterations, o.evaluations = end, iterations, evaluations
+	return o
 }
 
 // penaltyI4LBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
@@ -271,8 +380,24 @@ func penaltyI4LBFGSAnalyticFiniteVec(x *[4]float64) bool {
 	return true
 }
 
+// penaltyI4LBFGSAnalyticDifferences is what the difference gradients learn from the objective
+// at the start: for each coordinate i, the interval as a multiple of
+// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
+// forward differences, |f‴| for central ones). The analytic gradient
+// leaves it unused.
+type penaltyI4LBFGSAnalyticDifferences struct {
+	ratio     [4]float64
+	curvature [4]float64
+	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see penaltyI4LBFGSAnalyticRoundingFloor)
+}
+
+// penaltyI4LBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
+func penaltyI4LBFGSAnalyticCalibrate(x *[4]float64, fx float64, diffs *penaltyI4LBFGSAnalyticDifferences, budget int) (int, bool) {
+	return 0, true
+}
+
 // penaltyI4LBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func penaltyI4LBFGSAnalyticDerivative(x *[4]float64, fx float64, g *[4]float64) {
+func penaltyI4LBFGSAnalyticDerivative(x *[4]float64, fx float64, g *[4]float64, diffs *penaltyI4LBFGSAnalyticDifferences) {
 	PenaltyI4Grad(x, g)
 }
 
@@ -391,15 +516,43 @@ func penaltyI4LBFGSAnalyticCurvatureSafe(s, y *[4]float64) bool {
 	return sy > 0 && (sy/penaltyI4LBFGSAnalyticDot(s, s))*(sy/penaltyI4LBFGSAnalyticDot(y, y)) > penaltyI4LBFGSAnalyticUnitRoundoff
 }
 
-// penaltyI4LBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
-func penaltyI4LBFGSAnalyticMaxAbs(x *[4]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := penaltyI4LBFGSAnalyticAbs(x[i]); a > m || a != a {
-			m = a
-		}
+// penaltyI4LBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func penaltyI4LBFGSAnalyticGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *penaltyI4LBFGSAnalyticDifferences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return m
+}
+
+// penaltyI4LBFGSAnalyticGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func penaltyI4LBFGSAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
+	scale := penaltyI4LBFGSAnalyticLarger(penaltyI4LBFGSAnalyticAbs(fx), 1)
+	for i := range g {
+		w := penaltyI4LBFGSAnalyticLarger(penaltyI4LBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = penaltyI4LBFGSAnalyticLarger(measure, (penaltyI4LBFGSAnalyticAbs(g[i])+e[i])*w)
+		floor = penaltyI4LBFGSAnalyticLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// penaltyI4LBFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func penaltyI4LBFGSAnalyticLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
 }
 
 // penaltyI4LBFGSAnalyticAbs returns |v|.
@@ -408,6 +561,36 @@ func penaltyI4LBFGSAnalyticAbs(v float64) float64 {
 		return -v
 	}
 	return v
+}
+
+// penaltyI4LBFGSAnalyticConfirmGradient recomputes a difference gradient at x before the run is
+// called converged there: it chooses the intervals again from the
+// curvature at x (calibrate), computes g with them and with twice them,
+// and bounds each component's error by the model (penaltyI4LBFGSAnalyticGradientError) plus
+// three times the change the doubling made. That change measures what the
+// model can miss, truncation from curvature that varies and rounding
+// noise above 4u·|f|; as one sample of that noise it is tripled
+// (Richardson's idea of comparing two intervals; the factor is common
+// practice for a posteriori error estimates). It costs a calibration and two
+// gradients, and returns the calls spent and false when budget ran out
+// first.
+func penaltyI4LBFGSAnalyticConfirmGradient(x *[4]float64, fx float64, g, e *[4]float64, diffs *penaltyI4LBFGSAnalyticDifferences, budget int) (int, bool) {
+	calls, ok := penaltyI4LBFGSAnalyticCalibrate(x, fx, diffs, budget)
+	if !ok || calls+2*penaltyI4LBFGSAnalyticDerivativeCost > budget {
+		return calls, false
+	}
+	wide := *diffs
+	for i := range wide.ratio {
+		wide.ratio[i] *= 2
+	}
+	var doubled [4]float64
+	penaltyI4LBFGSAnalyticDerivative(x, fx, g, diffs)
+	penaltyI4LBFGSAnalyticDerivative(x, fx, &doubled, &wide)
+	penaltyI4LBFGSAnalyticGradientError(x, fx, g, e, diffs)
+	for i := range e {
+		e[i] += 3 * penaltyI4LBFGSAnalyticAbs(g[i]-doubled[i])
+	}
+	return calls + 2*penaltyI4LBFGSAnalyticDerivativeCost, true
 }
 
 // penaltyI4LBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
@@ -420,6 +603,65 @@ func penaltyI4LBFGSAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
 		}
 	}
 	return true
+}
+
+// penaltyI4LBFGSAnalyticSettle prepares the final verdict at a stall: with differences it
+// confirms the gradient (penaltyI4LBFGSAnalyticConfirmGradient), then it adds to each error
+// bound the rounding floor of x (penaltyI4LBFGSAnalyticRoundingFloor). It returns the objective
+// calls spent and false when budget ran out first.
+func penaltyI4LBFGSAnalyticSettle(x *[4]float64, fx float64, g, e *[4]float64, diffs *penaltyI4LBFGSAnalyticDifferences, budget int) (int, bool) {
+	calls := 0
+	if penaltyI4LBFGSAnalyticDerivativeCost > 0 {
+		spent, ok := penaltyI4LBFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
+	}
+	penaltyI4LBFGSAnalyticRoundingFloor(x, g, e, diffs)
+	return calls, true
+}
+
+// penaltyI4LBFGSAnalyticRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
+// that moving xᵢ by a few of its rounding units makes in gᵢ:
+// where no step the step test resolves decreases f, a gradient that small
+// is zero to the rounding of x (the resolution of x in floating point,
+// common practice). It is added only at a stall, so a gradient far above
+// it still ends the run as stalled.
+func penaltyI4LBFGSAnalyticRoundingFloor(x, g, e *[4]float64, diffs *penaltyI4LBFGSAnalyticDifferences) {
+	var h [4]float64
+	penaltyI4LBFGSAnalyticDiagonalCurvature(x, g, diffs, &h)
+	for i := range e {
+		e[i] += 4 * penaltyI4LBFGSAnalyticUnitRoundoff * penaltyI4LBFGSAnalyticAbs(x[i]) * h[i]
+	}
+}
+
+// penaltyI4LBFGSAnalyticDiagonalCurvature estimates each |∂²f/∂xᵢ²| from the analytic gradient
+// at x + δᵢeᵢ, δᵢ = √u·max(1, |xᵢ|): dim gradient calls and no objective
+// call (a forward difference of the gradient, Nocedal & Wright 2006,
+// §8.1).
+func penaltyI4LBFGSAnalyticDiagonalCurvature(x, g *[4]float64, diffs *penaltyI4LBFGSAnalyticDifferences, h *[4]float64) {
+	probe := *x
+	var moved [4]float64
+	for i := range probe {
+		xi := probe[i]
+		up, delta := penaltyI4LBFGSAnalyticProbeStep(xi, penaltyI4LBFGSAnalyticSquareRoot(penaltyI4LBFGSAnalyticUnitRoundoff)*penaltyI4LBFGSAnalyticLarger(1, penaltyI4LBFGSAnalyticAbs(xi)))
+		probe[i] = up
+		PenaltyI4Grad(&probe, &moved)
+		h[i] = penaltyI4LBFGSAnalyticAbs(moved[i]-g[i]) / delta
+		probe[i] = xi
+	}
+}
+
+// penaltyI4LBFGSAnalyticProbeStep returns x_i moved by h, and the step actually representable.
+func penaltyI4LBFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
+	moved := xi + h
+	return moved, moved - xi
+}
+
+// penaltyI4LBFGSAnalyticSquareRoot returns √v.
+func penaltyI4LBFGSAnalyticSquareRoot(v float64) float64 {
+	return math.Sqrt(v)
 }
 
 // penaltyI4LBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
@@ -458,7 +700,7 @@ func penaltyI4LBFGSAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func penaltyI4LBFGSAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64) penaltyI4LBFGSAnalyticLineResult {
+func penaltyI4LBFGSAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *penaltyI4LBFGSAnalyticDifferences) penaltyI4LBFGSAnalyticLineResult {
 	low := penaltyI4LBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyI4LBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                      // ∇f at low, kept for accepting low from a collapsed bracket
@@ -490,7 +732,7 @@ func penaltyI4LBFGSAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64, 
 			if calls+penaltyI4LBFGSAnalyticDerivativeCost > budget {
 				return penaltyI4LBFGSAnalyticLineResult{calls: calls, end: penaltyI4LBFGSAnalyticSearchOutOfBudget}
 			}
-			penaltyI4LBFGSAnalyticDerivative(xt, current.value, gt)
+			penaltyI4LBFGSAnalyticDerivative(xt, current.value, gt, diffs)
 			calls += penaltyI4LBFGSAnalyticDerivativeCost
 			current.slope, current.hasSlope = penaltyI4LBFGSAnalyticDot(gt, d), true
 			switch {
@@ -515,7 +757,7 @@ func penaltyI4LBFGSAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64, 
 	if low.step > 0 {
 		return penaltyI4LBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
 	}
-	return penaltyI4LBFGSAnalyticLineResult{calls: calls, end: penaltyI4LBFGSAnalyticSearchExhausted}
+	return penaltyI4LBFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: penaltyI4LBFGSAnalyticSearchExhausted}
 }
 
 // penaltyI4LBFGSAnalyticLineResult is what a line search reports to the kernel.
@@ -616,6 +858,7 @@ const (
 	penaltyI4LBFGSAnalyticSearchExhausted                                          // penaltyI4LBFGSAnalyticStepTrials trials met none
 	penaltyI4LBFGSAnalyticSearchOutOfBudget                                        // the evaluation cap came first
 	penaltyI4LBFGSAnalyticSearchTiny                                               // every step longer than tiny failed to decrease f
+	penaltyI4LBFGSAnalyticSearchDiverged                                           // a fixed step's value overflowed
 )
 
 // penaltyI4LBFGSAnalyticAcceptLow ends a Wolfe search with its best trial, which met sufficient
@@ -681,11 +924,6 @@ func penaltyI4LBFGSAnalyticModelMinimizer(a, b *penaltyI4LBFGSAnalyticLinePoint)
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, penaltyI4LBFGSAnalyticFinite(t)
-}
-
-// penaltyI4LBFGSAnalyticSquareRoot returns √v.
-func penaltyI4LBFGSAnalyticSquareRoot(v float64) float64 {
-	return math.Sqrt(v)
 }
 
 // penaltyI4LBFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in

@@ -8,10 +8,10 @@ import "math"
 type PenaltyI4LBFGSCentralStatus uint8
 
 const (
-	// PenaltyI4LBFGSCentralGradientSmall: the largest gradient component fell to the gradient limit: converged.
+	// PenaltyI4LBFGSCentralGradientSmall: the gradient test holds at X: its measure, with the differences' error bound when they are used, is at most the gradient limit: converged.
 	PenaltyI4LBFGSCentralGradientSmall PenaltyI4LBFGSCentralStatus = iota + 1
-	// PenaltyI4LBFGSCentralStepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f: converged.
-	PenaltyI4LBFGSCentralStepTiny
+	// PenaltyI4LBFGSCentralStalled: the step test ended the run, or no step longer than the step limit decreased f, while the gradient test still fails: X is as far as the run could get, not a verified minimizer.
+	PenaltyI4LBFGSCentralStalled
 	// PenaltyI4LBFGSCentralOutOfIterations: the iteration limit came first.
 	PenaltyI4LBFGSCentralOutOfIterations
 	// PenaltyI4LBFGSCentralOutOfEvaluations: the next objective call would have exceeded the evaluation cap.
@@ -22,8 +22,10 @@ const (
 	PenaltyI4LBFGSCentralNonFiniteStart
 	// PenaltyI4LBFGSCentralNonFiniteGradient: a gradient component became NaN or ±Inf.
 	PenaltyI4LBFGSCentralNonFiniteGradient
-	// PenaltyI4LBFGSCentralNoDecrease: no step longer than the step limit decreased f, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test).
+	// PenaltyI4LBFGSCentralNoDecrease: the line search found no acceptable step, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test).
 	PenaltyI4LBFGSCentralNoDecrease
+	// PenaltyI4LBFGSCentralDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
+	PenaltyI4LBFGSCentralDiverged
 )
 
 // String describes the status in a few words.
@@ -31,8 +33,8 @@ func (s PenaltyI4LBFGSCentralStatus) String() string {
 	switch s {
 	case PenaltyI4LBFGSCentralGradientSmall:
 		return "gradient small"
-	case PenaltyI4LBFGSCentralStepTiny:
-		return "step tiny"
+	case PenaltyI4LBFGSCentralStalled:
+		return "stalled"
 	case PenaltyI4LBFGSCentralOutOfIterations:
 		return "out of iterations"
 	case PenaltyI4LBFGSCentralOutOfEvaluations:
@@ -45,28 +47,32 @@ func (s PenaltyI4LBFGSCentralStatus) String() string {
 		return "non-finite gradient"
 	case PenaltyI4LBFGSCentralNoDecrease:
 		return "no decrease"
+	case PenaltyI4LBFGSCentralDiverged:
+		return "diverged"
 	default:
 		return "unknown status"
 	}
 }
 
-// Converged reports whether a convergence test, on the gradient or on the step, ended the run; limits, line-search failure and non-finite values are not convergence.
+// Converged reports whether the gradient test holds at X (Gradient ≤ GradientLimit in the result): only then is X a verified stationary point; a stall, the limits, line-search failure and non-finite values are not convergence.
 func (s PenaltyI4LBFGSCentralStatus) Converged() bool {
-	return s == PenaltyI4LBFGSCentralGradientSmall || s == PenaltyI4LBFGSCentralStepTiny
+	return s == PenaltyI4LBFGSCentralGradientSmall
 }
 
 // PenaltyI4LBFGSCentralResult is where PenaltyI4LBFGSCentral stopped and why.
 type PenaltyI4LBFGSCentralResult struct {
-	X           [4]float64                  // the last accepted point, the best one found
-	F           float64                     // the objective at X
-	Iterations  int                         // accepted steps
-	Evaluations int                         // objective calls, finite differences included
-	Status      PenaltyI4LBFGSCentralStatus // why the run stopped; check Status.Converged()
+	X             [4]float64                  // where the gradient test held, when converged; else the lowest point seen
+	F             float64                     // the objective at X
+	Gradient      float64                     // the gradient test's measure at X, the differences' error bound included; NaN when the run ended before the gradient at X was known
+	GradientLimit float64                     // the limit Gradient was held to: Limits.Gradient, raised with differences to ten times the measure of their error bound; converged runs have Gradient ≤ GradientLimit
+	Iterations    int                         // accepted steps
+	Evaluations   int                         // objective calls, finite differences included
+	Status        PenaltyI4LBFGSCentralStatus // why the run stopped; check Status.Converged()
 }
 
 // PenaltyI4LBFGSCentralLimits are the stop limits of one run. Pass them to PenaltyI4LBFGSCentralWithLimits to change them at run time; PenaltyI4LBFGSCentralDefaultLimits returns the spec's.
 type PenaltyI4LBFGSCentralLimits struct {
-	Gradient    float64 // stop when the largest |∂f/∂xᵢ| is at most this
+	Gradient    float64 // stop, converged, when the gradient test's measure is at most this (with differences, at most ten times the measure of their error bound where that is larger)
 	Step        float64 // stop when every |Δxᵢ| is at most this·(|xᵢ| + 1)
 	Iterations  int     // most accepted steps
 	Evaluations int     // hard cap on objective calls, finite differences included; never exceeded
@@ -86,11 +92,12 @@ func PenaltyI4LBFGSCentralDefaultLimits() PenaltyI4LBFGSCentralLimits {
 //
 // Direction lbfgs: limited-memory BFGS: the last `memory` pairs, two-loop recursion (2·memory·dim numbers).
 // Step rule wolfe: bracket and zoom until sufficient decrease and the curvature condition hold.
-// Derivative central: central differences: 2·dim objective calls per gradient, error O(u^(2/3)).
+// Derivative central: central differences: 2·dim objective calls per gradient, intervals from the objective's curvature, error O(u^(2/3)).
+// Gradient test relative: max over i of (|∂f/∂xᵢ| + eᵢ)·max(|xᵢ|, 1)/max(|f(x)|, 1), eᵢ the error bound of differences (0 for an analytic gradient).
 // Constants: initial 1.0, c1 0.0001, c2 0.9, at most 48 trials per line search, memory 5 pairs.
-// Default stop: largest gradient component ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
+// Default stop: gradient measure ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
 //
-// Worst case: 200000 objective calls, 8 of them per gradient (the evaluation cap; the iteration limit alone would allow 2160009). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
+// Worst case: 200000 objective calls, 8 of them per gradient and 16 per choice of the difference intervals (at the start and before each convergence is confirmed) (the evaluation cap; the iteration limit alone would allow 2320489). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
 func PenaltyI4LBFGSCentral(x0 [4]float64) PenaltyI4LBFGSCentralResult {
 	return PenaltyI4LBFGSCentralWithLimits(x0, PenaltyI4LBFGSCentralDefaultLimits())
@@ -100,11 +107,13 @@ func PenaltyI4LBFGSCentral(x0 [4]float64) PenaltyI4LBFGSCentralResult {
 func PenaltyI4LBFGSCentralWithLimits(x0 [4]float64, limits PenaltyI4LBFGSCentralLimits) PenaltyI4LBFGSCentralResult {
 	out := penaltyI4LBFGSCentralMinimize(x0, limits)
 	return PenaltyI4LBFGSCentralResult{
-		Evaluations: out.evaluations,
-		F:           out.f,
-		Iterations:  out.iterations,
-		Status:      out.status,
-		X:           out.x,
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
 	}
 }
 
@@ -118,27 +127,40 @@ const (
 	penaltyI4LBFGSCentralDerivativeCost = 8                      // objective calls per gradient
 	penaltyI4LBFGSCentralUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
 	penaltyI4LBFGSCentralLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
-	penaltyI4LBFGSCentralCentralScale   = 4.806217383937352e-06  // ∛u, central-difference step scale (Nocedal & Wright 2006, §8.1)
 )
 
 // penaltyI4LBFGSCentralMinimize runs the descent loop from x0 within lim:
 //
-//  1. stop when the largest gradient component is at most lim.Gradient;
+//  1. stop, converged, when the gradient measure (penaltyI4LBFGSCentralGradientMeasure, error
+//     bound of differences included) is at most the limit: lim.Gradient,
+//     or three times the measure of the differences' error bound when that is
+//     larger, so that the limit can be met (the floor the test can see);
+//     differences confirm it first (penaltyI4LBFGSCentralConfirmGradient);
 //  2. stop after lim.Iterations accepted steps;
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
-//  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged,
-//     unless f contradicts an analytic gradient: no decrease);
+//  4. search along d; stop when no trial is acceptable or only steps
+//     shorter than the step limit are left to try: stalled, or no
+//     decrease when f contradicts an analytic gradient (see penaltyI4LBFGSCentralRiseTrend);
 //  5. move, refresh the gradient, let the direction learn from the step;
-//  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
+//  6. stop, stalled, when every |Δx_i| is at most lim.Step·(|x_i| + 1) while
+//     the gradient test still fails. At a stall the run settles first
+//     (settle): the error bound gains the rounding floor of x, with
+//     differences confirmed, and the limit rises to ten times the larger
+//     of lim.Gradient and the bound's measure; a gradient within that is
+//     as small as this point can show, and the run is converged with that
+//     limit, which it reports.
 //
-// Before every objective call it checks that lim.Evaluations leaves room
-// for it, so the cap is never exceeded. A NaN or ±Inf at the start or in a
+// Only step 1 is convergence: the first-order test holds at X. Before
+// every objective call it checks that lim.Evaluations leaves room for it,
+// so the cap is never exceeded. A NaN or ±Inf at the start or in a
 // gradient ends the run with its own status; a non-finite trial value is
-// rejected by the line search like any failed trial.
+// rejected by the line search like any failed trial. X is the best point
+// seen unless the run converged, which it did at X. A fixed step whose
+// value overflows, or that raised f above f(x0) at eight steps in a row,
+// ends the run as diverged (common practice for a divergence test).
 func penaltyI4LBFGSCentralMinimize(x0 [4]float64, lim PenaltyI4LBFGSCentralLimits) penaltyI4LBFGSCentralOutcome {
-	out := penaltyI4LBFGSCentralOutcome{x: x0, status: PenaltyI4LBFGSCentralOutOfEvaluations}
+	out := penaltyI4LBFGSCentralOutcome{x: x0, status: PenaltyI4LBFGSCentralOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
@@ -149,11 +171,14 @@ func penaltyI4LBFGSCentralMinimize(x0 [4]float64, lim PenaltyI4LBFGSCentralLimit
 		out.status = PenaltyI4LBFGSCentralNonFiniteStart
 		return out
 	}
-	if out.evaluations+penaltyI4LBFGSCentralDerivativeCost > lim.Evaluations {
+	var diffs penaltyI4LBFGSCentralDifferences
+	calls, ok := penaltyI4LBFGSCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
+	out.evaluations += calls
+	if !ok || out.evaluations+penaltyI4LBFGSCentralDerivativeCost > lim.Evaluations {
 		return out
 	}
-	var g [4]float64
-	penaltyI4LBFGSCentralDerivative(&x, fx, &g)
+	var g, e [4]float64
+	penaltyI4LBFGSCentralDerivative(&x, fx, &g, &diffs)
 	out.evaluations += penaltyI4LBFGSCentralDerivativeCost
 
 	if !penaltyI4LBFGSCentralFiniteVec(&g) {
@@ -164,21 +189,76 @@ func penaltyI4LBFGSCentralMinimize(x0 [4]float64, lim PenaltyI4LBFGSCentralLimit
 	dir.reset()
 	var d, xt, gt, s, y [4]float64
 	t, slope := float64(penaltyI4LBFGSCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
+	best := out                                                       // the lowest point seen, for runs that end unconverged
+	start, rises := fx, 0                                             // f(x0), and consecutive accepted steps that raised f above it
+	confirmed := false                                                // whether g and e at x come from penaltyI4LBFGSCentralConfirmGradient
+	stalled := false                                                  // whether the run can make no more progress at x
+	retried := -1                                                     // the iteration whose stall was retried with recalibrated differences
 	for {
-		if penaltyI4LBFGSCentralMaxAbs(&g) <= lim.Gradient {
+		if !confirmed {
+			penaltyI4LBFGSCentralGradientError(&x, fx, &g, &e, &diffs)
+		}
+		measure, floor := penaltyI4LBFGSCentralGradientMeasure(&g, &e, &x, fx)
+		out.gradient, out.gradientLimit = measure, penaltyI4LBFGSCentralLarger(lim.Gradient, 3*floor)
+		if stalled {
+			// No step can make progress here: the gradient is as small as
+			// this point shows it, within ten times the limit or the floor.
+			out.gradientLimit = 10 * penaltyI4LBFGSCentralLarger(lim.Gradient, floor)
+		}
+		if out.f <= best.f {
+			best = out
+		}
+		if measure <= out.gradientLimit && (penaltyI4LBFGSCentralDerivativeCost == 0 || confirmed) {
 			out.status = PenaltyI4LBFGSCentralGradientSmall
 			return out
 		}
-		if out.iterations > 0 {
+		if measure <= out.gradientLimit {
+			// Differences pass the test: confirm it with intervals chosen
+			// here and an error measured rather than modelled.
+			calls, ok := penaltyI4LBFGSCentralConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(PenaltyI4LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !penaltyI4LBFGSCentralFiniteVec(&g) {
+				return best.ending(PenaltyI4LBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			confirmed = true
+			continue
+		}
+		if stalled {
+			// Settled and still above the limit: stalled, unless
+			// differences, whose intervals were just chosen here, can
+			// search once more with the better gradient.
+			if penaltyI4LBFGSCentralDerivativeCost == 0 {
+				return best.ending(PenaltyI4LBFGSCentralStalled, out.iterations, out.evaluations)
+			}
+			stalled, retried = false, out.iterations
+		}
+		// At a stall, settle first: the run is converged if the gradient
+		// is zero to the rounding of x (and, with differences, to their
+		// accuracy, confirmed); see settle.
+		canSettle := retried != out.iterations
+		if out.iterations > 0 && canSettle {
 			if penaltyI4LBFGSCentralStepWithin(&s, &x, lim.Step) {
-				out.status = PenaltyI4LBFGSCentralStepTiny
-				return out
+				calls, ok := penaltyI4LBFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+				out.evaluations += calls
+				if !ok {
+					return best.ending(PenaltyI4LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+				}
+				if !penaltyI4LBFGSCentralFiniteVec(&g) {
+					return best.ending(PenaltyI4LBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
+				}
+				stalled, confirmed = true, true
+				continue
+			}
+			if rises >= 8 {
+				return best.ending(PenaltyI4LBFGSCentralDiverged, out.iterations, out.evaluations)
 			}
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
-			out.status = PenaltyI4LBFGSCentralOutOfIterations
-			return out
+			return best.ending(PenaltyI4LBFGSCentralOutOfIterations, out.iterations, out.evaluations)
 		}
 		dir.compute(&g, &d)
 		now := penaltyI4LBFGSCentralDot(&g, &d)
@@ -192,50 +272,70 @@ func penaltyI4LBFGSCentralMinimize(x0 [4]float64, lim PenaltyI4LBFGSCentralLimit
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := penaltyI4LBFGSCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := penaltyI4LBFGSCentralLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt)
+		found := penaltyI4LBFGSCentralLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case penaltyI4LBFGSCentralSearchOutOfBudget:
-			return out
-		case penaltyI4LBFGSCentralSearchExhausted:
-			out.status = PenaltyI4LBFGSCentralNoAcceptableStep
-			return out
-		case penaltyI4LBFGSCentralSearchTiny:
-			// Converged to the step limit: no step the step test would
-			// reject decreases f. Not so when an analytic gradient is
-			// contradicted by f rising in proportion to the step (see
-			// penaltyI4LBFGSCentralRiseTrend, which never reports that for differences).
-			out.status = PenaltyI4LBFGSCentralStepTiny
-			if found.rising {
-				out.status = PenaltyI4LBFGSCentralNoDecrease
+			return best.ending(PenaltyI4LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+		case penaltyI4LBFGSCentralSearchDiverged:
+			return best.ending(PenaltyI4LBFGSCentralDiverged, out.iterations, out.evaluations)
+		case penaltyI4LBFGSCentralSearchExhausted, penaltyI4LBFGSCentralSearchTiny:
+			// No acceptable step. When an analytic gradient predicted a
+			// fall that f contradicted in proportion to the step, the
+			// gradient is probably wrong (see penaltyI4LBFGSCentralRiseTrend, which never
+			// reports that for differences); otherwise the search stalled
+			// below the step limit, or ran out of trials.
+			end := PenaltyI4LBFGSCentralNoAcceptableStep
+			switch {
+			case found.rising:
+				end = PenaltyI4LBFGSCentralNoDecrease
+			case found.end == penaltyI4LBFGSCentralSearchTiny && canSettle:
+				calls, ok := penaltyI4LBFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+				out.evaluations += calls
+				if !ok {
+					return best.ending(PenaltyI4LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+				}
+				if !penaltyI4LBFGSCentralFiniteVec(&g) {
+					return best.ending(PenaltyI4LBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
+				}
+				stalled, confirmed = true, true
+				continue
+			case found.end == penaltyI4LBFGSCentralSearchTiny:
+				end = PenaltyI4LBFGSCentralStalled
 			}
-			return out
+			return best.ending(end, out.iterations, out.evaluations)
 		}
 		if !penaltyI4LBFGSCentralFiniteVec(&xt) {
-			out.status = PenaltyI4LBFGSCentralNoAcceptableStep // the accepted trial overflowed x
-			return out
+			return best.ending(PenaltyI4LBFGSCentralNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
 		}
 		if !found.gradient {
 			if out.evaluations+penaltyI4LBFGSCentralDerivativeCost > lim.Evaluations {
-				if found.value < fx { // keep a better point even without its gradient
-					out.x, out.f = xt, found.value
+				if found.value < best.f { // keep a better point even without its gradient
+					best.x, best.f, best.gradient = xt, found.value, math.NaN()
 					out.iterations++
 				}
-				return out
+				return best.ending(PenaltyI4LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			penaltyI4LBFGSCentralDerivative(&xt, found.value, &gt)
+			penaltyI4LBFGSCentralDerivative(&xt, found.value, &gt, &diffs)
 			out.evaluations += penaltyI4LBFGSCentralDerivativeCost
 		}
 		out.iterations++
 		penaltyI4LBFGSCentralDifference(&s, &xt, &x)
 		penaltyI4LBFGSCentralDifference(&y, &gt, &g)
-		x, fx, g = xt, found.value, gt
-		out.x, out.f = x, fx
+		if found.value > fx && found.value > start {
+			rises++
+		} else {
+			rises = 0
+		}
+		x, fx, g, confirmed = xt, found.value, gt, false
+		out.x, out.f, out.gradient = x, fx, math.NaN()
 		t, slope = found.step, now
 
 		if !penaltyI4LBFGSCentralFiniteVec(&g) {
-			out.status = PenaltyI4LBFGSCentralNonFiniteGradient
-			return out
+			if out.f < best.f {
+				best = out
+			}
+			return best.ending(PenaltyI4LBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
 		}
 	}
 }
@@ -243,11 +343,19 @@ func penaltyI4LBFGSCentralMinimize(x0 [4]float64, lim PenaltyI4LBFGSCentralLimit
 // penaltyI4LBFGSCentralOutcome is the kernel's report; the generated entry point copies it into
 // the spec's result type.
 type penaltyI4LBFGSCentralOutcome struct {
-	x           [4]float64
-	f           float64
-	iterations  int
-	evaluations int
-	status      PenaltyI4LBFGSCentralStatus
+	x             [4]float64
+	f             float64
+	gradient      float64 // the stop test's measure at x, error bound included; NaN when not known
+	gradientLimit float64 // the limit that measure was held to
+	iterations    int
+	evaluations   int
+	status        PenaltyI4LBFGSCentralStatus
+}
+
+// ending is the best point seen, reported with the run's end and counts.
+func (o penaltyI4LBFGSCentralOutcome) ending(end PenaltyI4LBFGSCentralStatus, iterations, evaluations int) penaltyI4LBFGSCentralOutcome {
+	o.status, o.iterations, o.evaluations = end, iterations, evaluations
+	return o
 }
 
 // penaltyI4LBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
@@ -272,26 +380,81 @@ func penaltyI4LBFGSCentralFiniteVec(x *[4]float64) bool {
 	return true
 }
 
-// penaltyI4LBFGSCentralDerivative approximates the gradient by central differences,
+// penaltyI4LBFGSCentralDifferences is what the difference gradients learn from the objective
+// at the start: for each coordinate i, the interval as a multiple of
+// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
+// forward differences, |f‴| for central ones). The analytic gradient
+// leaves it unused.
+type penaltyI4LBFGSCentralDifferences struct {
+	ratio     [4]float64
+	curvature [4]float64
+	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see penaltyI4LBFGSCentralRoundingFloor)
+}
+
+// penaltyI4LBFGSCentralCalibrate chooses each central-difference interval from the
+// third derivative along e_i, estimated at x with four probes at ±h̄ and
+// ±2h̄, h̄ = u^(1/4)·s, s = max(1, |x_i|):
 //
-//	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),  h_i = ∛u · max(1, |x_i|),
+//	f‴ ≈ (f(x + 2h̄eᵢ) − 2f(x + h̄eᵢ) + 2f(x − h̄eᵢ) − f(x − 2h̄eᵢ)) / (2h̄³),
+//	h_i  = ∛(3ε_A / |f‴|)
 //
-// with error O(h²) (Nocedal & Wright 2006, eq. 8.7 and §8.1). It costs
-// 2·dim objective calls; fx is not needed.
-func penaltyI4LBFGSCentralDerivative(x *[4]float64, fx float64, g *[4]float64) {
+// the interval that minimizes the truncation error h²|f‴|/6 plus the
+// rounding error ε_A/h of a central difference (Nocedal & Wright 2006,
+// §8.1, with the third-derivative estimate of the forward interval's
+// procedure of Gill, Murray, Saunders & Wright 1983 carried one order
+// up), with ε_A from penaltyI4LBFGSCentralNoiseLevel and the probes' slopes. An estimate below
+// its rounding noise 3ε_A/h̄³ is replaced by that noise, and h_i is kept
+// within [64u·s, h̄]. It costs four objective calls per unknown.
+func penaltyI4LBFGSCentralCalibrate(x *[4]float64, fx float64, diffs *penaltyI4LBFGSCentralDifferences, budget int) (int, bool) {
 	probe := *x
+	var slope [4]float64
+	scale := penaltyI4LBFGSCentralAbs(fx)
+	quarter := penaltyI4LBFGSCentralSquareRoot(penaltyI4LBFGSCentralSquareRoot(penaltyI4LBFGSCentralUnitRoundoff)) // u^(1/4)
 	for i := range probe {
+		if 4*(i+1) > budget {
+			return 4 * i, false
+		}
 		xi := probe[i]
-		h := penaltyI4LBFGSCentralCentralScale * penaltyI4LBFGSCentralLarger(1, penaltyI4LBFGSCentralAbs(xi)) // N&W §8.1: h = ∛u·max(1,|x_i|)
-		up := xi + h
-		down := xi - h
-		probe[i] = up
-		fUp := PenaltyI4(&probe)
-		probe[i] = down
-		fDown := PenaltyI4(&probe)
-		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+		bar := quarter * penaltyI4LBFGSCentralLarger(1, penaltyI4LBFGSCentralAbs(xi))
+		var f [4]float64
+		for k, m := range [4]float64{2, 1, -1, -2} {
+			probe[i], _ = penaltyI4LBFGSCentralProbeStep(xi, m*bar)
+			f[k] = PenaltyI4(&probe)
+			scale = penaltyI4LBFGSCentralLarger(scale, penaltyI4LBFGSCentralMagnitude(f[k]))
+		}
 		probe[i] = xi
+		if penaltyI4LBFGSCentralFinite(f[0]) && penaltyI4LBFGSCentralFinite(f[1]) && penaltyI4LBFGSCentralFinite(f[2]) && penaltyI4LBFGSCentralFinite(f[3]) {
+			diffs.curvature[i] = penaltyI4LBFGSCentralAbs(f[0]-2*f[1]+2*f[2]-f[3]) / (2 * bar * bar * bar)
+			diffs.second[i] = penaltyI4LBFGSCentralAbs(f[1]-2*fx+f[2]) / (bar * bar)
+			slope[i] = (f[1] - f[2]) / (2 * bar)
+		}
 	}
+	noise := penaltyI4LBFGSCentralNoiseLevel(x, scale, &slope)
+	for i := range probe {
+		s := penaltyI4LBFGSCentralLarger(1, penaltyI4LBFGSCentralAbs(probe[i]))
+		bar := quarter * s
+		third := penaltyI4LBFGSCentralLarger(diffs.curvature[i], 3*noise/(bar*bar*bar))
+		h := bar
+		if third > 0 {
+			h = penaltyI4LBFGSCentralCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+		}
+		diffs.ratio[i] = penaltyI4LBFGSCentralClampBetween(h, 64*penaltyI4LBFGSCentralUnitRoundoff*s, bar) / s
+		diffs.curvature[i] = third
+	}
+	return 4 * len(probe), true
+}
+
+// penaltyI4LBFGSCentralAbs returns |v|.
+func penaltyI4LBFGSCentralAbs(v float64) float64 {
+	if v < 0 {
+		return -v
+	}
+	return v
+}
+
+// penaltyI4LBFGSCentralSquareRoot returns √v.
+func penaltyI4LBFGSCentralSquareRoot(v float64) float64 {
+	return math.Sqrt(v)
 }
 
 // penaltyI4LBFGSCentralLarger returns the larger of a and b, or a NaN among them. The builtin
@@ -304,12 +467,81 @@ func penaltyI4LBFGSCentralLarger(a, b float64) float64 {
 	return b
 }
 
-// penaltyI4LBFGSCentralAbs returns |v|.
-func penaltyI4LBFGSCentralAbs(v float64) float64 {
-	if v < 0 {
-		return -v
+// penaltyI4LBFGSCentralProbeStep returns x_i moved by h, and the step actually representable.
+func penaltyI4LBFGSCentralProbeStep(xi, h float64) (float64, float64) {
+	moved := xi + h
+	return moved, moved - xi
+}
+
+// penaltyI4LBFGSCentralMagnitude is |v| for a finite v and 0 otherwise: a probe that fell
+// outside the objective's domain says nothing about its rounding.
+func penaltyI4LBFGSCentralMagnitude(v float64) float64 {
+	if !penaltyI4LBFGSCentralFinite(v) {
+		return 0
+	}
+	return penaltyI4LBFGSCentralAbs(v)
+}
+
+// penaltyI4LBFGSCentralNoiseLevel is the absolute error assumed in a computed value fx of the
+// objective at x, where its gradient is about g:
+//
+//	ε_A = 4u·(|fx| + Σᵢ |gᵢ·xᵢ|),
+//
+// a few roundings of the result plus the change that rounding each xᵢ by
+// a relative u makes in f, which is what an objective computed with
+// cancellation inside (y − x² in Rosenbrock's valley) shows near a zero
+// minimum, where u·|f| alone vanishes (the first-order error of
+// evaluating f at a rounded x; the factor 4 is common practice; Gill,
+// Murray, Saunders & Wright 1983 leave ε_A to the user).
+func penaltyI4LBFGSCentralNoiseLevel(x *[4]float64, fx float64, g *[4]float64) float64 {
+	sum := penaltyI4LBFGSCentralAbs(fx)
+	for i := range x {
+		sum += penaltyI4LBFGSCentralAbs(g[i] * x[i])
+	}
+	return 4 * penaltyI4LBFGSCentralUnitRoundoff * sum
+}
+
+// penaltyI4LBFGSCentralCubeRoot returns ∛v for v ≥ 0.
+func penaltyI4LBFGSCentralCubeRoot(v float64) float64 {
+	return math.Cbrt(v)
+}
+
+// penaltyI4LBFGSCentralClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func penaltyI4LBFGSCentralClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
 	}
 	return v
+}
+
+// penaltyI4LBFGSCentralDerivative approximates the gradient by central differences,
+//
+//	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),
+//
+// with the intervals penaltyI4LBFGSCentralCalibrate chose, h_i = ratio_i·max(1, |x_i|)
+// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls; fx is
+// not needed.
+func penaltyI4LBFGSCentralDerivative(x *[4]float64, fx float64, g *[4]float64, diffs *penaltyI4LBFGSCentralDifferences) {
+	probe := *x
+	for i := range probe {
+		xi := probe[i]
+		h := diffs.ratio[i] * penaltyI4LBFGSCentralLarger(1, penaltyI4LBFGSCentralAbs(xi))
+		up, _ := penaltyI4LBFGSCentralProbeStep(xi, h)
+		down, _ := penaltyI4LBFGSCentralProbeStep(xi, -h)
+		probe[i] = up
+		fUp := PenaltyI4(&probe)
+		probe[i] = down
+		fDown := PenaltyI4(&probe)
+		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+		probe[i] = xi
+	}
 }
 
 // penaltyI4LBFGSCentralDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
@@ -427,15 +659,67 @@ func penaltyI4LBFGSCentralCurvatureSafe(s, y *[4]float64) bool {
 	return sy > 0 && (sy/penaltyI4LBFGSCentralDot(s, s))*(sy/penaltyI4LBFGSCentralDot(y, y)) > penaltyI4LBFGSCentralUnitRoundoff
 }
 
-// penaltyI4LBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
-func penaltyI4LBFGSCentralMaxAbs(x *[4]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := penaltyI4LBFGSCentralAbs(x[i]); a > m || a != a {
-			m = a
-		}
+// penaltyI4LBFGSCentralGradientError bounds each central difference's error by twice its
+// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
+// in forwardError).
+func penaltyI4LBFGSCentralGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *penaltyI4LBFGSCentralDifferences) {
+	noise := penaltyI4LBFGSCentralNoiseLevel(x, fx, g)
+	for i := range e {
+		h := diffs.ratio[i] * penaltyI4LBFGSCentralLarger(1, penaltyI4LBFGSCentralAbs(x[i]))
+		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
 	}
-	return m
+}
+
+// penaltyI4LBFGSCentralGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func penaltyI4LBFGSCentralGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
+	scale := penaltyI4LBFGSCentralLarger(penaltyI4LBFGSCentralAbs(fx), 1)
+	for i := range g {
+		w := penaltyI4LBFGSCentralLarger(penaltyI4LBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = penaltyI4LBFGSCentralLarger(measure, (penaltyI4LBFGSCentralAbs(g[i])+e[i])*w)
+		floor = penaltyI4LBFGSCentralLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// penaltyI4LBFGSCentralConfirmGradient recomputes a difference gradient at x before the run is
+// called converged there: it chooses the intervals again from the
+// curvature at x (calibrate), computes g with them and with twice them,
+// and bounds each component's error by the model (penaltyI4LBFGSCentralGradientError) plus
+// three times the change the doubling made. That change measures what the
+// model can miss, truncation from curvature that varies and rounding
+// noise above 4u·|f|; as one sample of that noise it is tripled
+// (Richardson's idea of comparing two intervals; the factor is common
+// practice for a posteriori error estimates). It costs a calibration and two
+// gradients, and returns the calls spent and false when budget ran out
+// first.
+func penaltyI4LBFGSCentralConfirmGradient(x *[4]float64, fx float64, g, e *[4]float64, diffs *penaltyI4LBFGSCentralDifferences, budget int) (int, bool) {
+	calls, ok := penaltyI4LBFGSCentralCalibrate(x, fx, diffs, budget)
+	if !ok || calls+2*penaltyI4LBFGSCentralDerivativeCost > budget {
+		return calls, false
+	}
+	wide := *diffs
+	for i := range wide.ratio {
+		wide.ratio[i] *= 2
+	}
+	var doubled [4]float64
+	penaltyI4LBFGSCentralDerivative(x, fx, g, diffs)
+	penaltyI4LBFGSCentralDerivative(x, fx, &doubled, &wide)
+	penaltyI4LBFGSCentralGradientError(x, fx, g, e, diffs)
+	for i := range e {
+		e[i] += 3 * penaltyI4LBFGSCentralAbs(g[i]-doubled[i])
+	}
+	return calls + 2*penaltyI4LBFGSCentralDerivativeCost, true
 }
 
 // penaltyI4LBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
@@ -448,6 +732,43 @@ func penaltyI4LBFGSCentralStepWithin(s, x *[4]float64, tol float64) bool {
 		}
 	}
 	return true
+}
+
+// penaltyI4LBFGSCentralSettle prepares the final verdict at a stall: with differences it
+// confirms the gradient (penaltyI4LBFGSCentralConfirmGradient), then it adds to each error
+// bound the rounding floor of x (penaltyI4LBFGSCentralRoundingFloor). It returns the objective
+// calls spent and false when budget ran out first.
+func penaltyI4LBFGSCentralSettle(x *[4]float64, fx float64, g, e *[4]float64, diffs *penaltyI4LBFGSCentralDifferences, budget int) (int, bool) {
+	calls := 0
+	if penaltyI4LBFGSCentralDerivativeCost > 0 {
+		spent, ok := penaltyI4LBFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
+	}
+	penaltyI4LBFGSCentralRoundingFloor(x, g, e, diffs)
+	return calls, true
+}
+
+// penaltyI4LBFGSCentralRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
+// that moving xᵢ by a few of its rounding units makes in gᵢ:
+// where no step the step test resolves decreases f, a gradient that small
+// is zero to the rounding of x (the resolution of x in floating point,
+// common practice). It is added only at a stall, so a gradient far above
+// it still ends the run as stalled.
+func penaltyI4LBFGSCentralRoundingFloor(x, g, e *[4]float64, diffs *penaltyI4LBFGSCentralDifferences) {
+	var h [4]float64
+	penaltyI4LBFGSCentralDiagonalCurvature(x, g, diffs, &h)
+	for i := range e {
+		e[i] += 4 * penaltyI4LBFGSCentralUnitRoundoff * penaltyI4LBFGSCentralAbs(x[i]) * h[i]
+	}
+}
+
+// penaltyI4LBFGSCentralDiagonalCurvature takes each |f″| along eᵢ from the differences' last
+// calibration, which penaltyI4LBFGSCentralConfirmGradient has just made at x.
+func penaltyI4LBFGSCentralDiagonalCurvature(x, g *[4]float64, diffs *penaltyI4LBFGSCentralDifferences, h *[4]float64) {
+	*h = diffs.second
 }
 
 // penaltyI4LBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
@@ -486,7 +807,7 @@ func penaltyI4LBFGSCentralTinyStep(x, d *[4]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func penaltyI4LBFGSCentralLineSearch(x *[4]float64, fx float64, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64) penaltyI4LBFGSCentralLineResult {
+func penaltyI4LBFGSCentralLineSearch(x *[4]float64, fx float64, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *penaltyI4LBFGSCentralDifferences) penaltyI4LBFGSCentralLineResult {
 	low := penaltyI4LBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyI4LBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                     // ∇f at low, kept for accepting low from a collapsed bracket
@@ -518,7 +839,7 @@ func penaltyI4LBFGSCentralLineSearch(x *[4]float64, fx float64, d *[4]float64, s
 			if calls+penaltyI4LBFGSCentralDerivativeCost > budget {
 				return penaltyI4LBFGSCentralLineResult{calls: calls, end: penaltyI4LBFGSCentralSearchOutOfBudget}
 			}
-			penaltyI4LBFGSCentralDerivative(xt, current.value, gt)
+			penaltyI4LBFGSCentralDerivative(xt, current.value, gt, diffs)
 			calls += penaltyI4LBFGSCentralDerivativeCost
 			current.slope, current.hasSlope = penaltyI4LBFGSCentralDot(gt, d), true
 			switch {
@@ -543,7 +864,7 @@ func penaltyI4LBFGSCentralLineSearch(x *[4]float64, fx float64, d *[4]float64, s
 	if low.step > 0 {
 		return penaltyI4LBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
 	}
-	return penaltyI4LBFGSCentralLineResult{calls: calls, end: penaltyI4LBFGSCentralSearchExhausted}
+	return penaltyI4LBFGSCentralLineResult{calls: calls, rising: trend.contradicts(), end: penaltyI4LBFGSCentralSearchExhausted}
 }
 
 // penaltyI4LBFGSCentralLineResult is what a line search reports to the kernel.
@@ -644,6 +965,7 @@ const (
 	penaltyI4LBFGSCentralSearchExhausted                                         // penaltyI4LBFGSCentralStepTrials trials met none
 	penaltyI4LBFGSCentralSearchOutOfBudget                                       // the evaluation cap came first
 	penaltyI4LBFGSCentralSearchTiny                                              // every step longer than tiny failed to decrease f
+	penaltyI4LBFGSCentralSearchDiverged                                          // a fixed step's value overflowed
 )
 
 // penaltyI4LBFGSCentralAcceptLow ends a Wolfe search with its best trial, which met sufficient
@@ -709,26 +1031,6 @@ func penaltyI4LBFGSCentralModelMinimizer(a, b *penaltyI4LBFGSCentralLinePoint) (
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, penaltyI4LBFGSCentralFinite(t)
-}
-
-// penaltyI4LBFGSCentralSquareRoot returns √v.
-func penaltyI4LBFGSCentralSquareRoot(v float64) float64 {
-	return math.Sqrt(v)
-}
-
-// penaltyI4LBFGSCentralClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func penaltyI4LBFGSCentralClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // penaltyI4LBFGSCentralExpandTrial picks a larger trial after current met sufficient decrease

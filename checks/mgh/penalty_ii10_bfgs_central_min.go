@@ -8,10 +8,10 @@ import "math"
 type PenaltyII10BFGSCentralStatus uint8
 
 const (
-	// PenaltyII10BFGSCentralGradientSmall: the largest gradient component fell to the gradient limit: converged.
+	// PenaltyII10BFGSCentralGradientSmall: the gradient test holds at X: its measure, with the differences' error bound when they are used, is at most the gradient limit: converged.
 	PenaltyII10BFGSCentralGradientSmall PenaltyII10BFGSCentralStatus = iota + 1
-	// PenaltyII10BFGSCentralStepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f: converged.
-	PenaltyII10BFGSCentralStepTiny
+	// PenaltyII10BFGSCentralStalled: the step test ended the run, or no step longer than the step limit decreased f, while the gradient test still fails: X is as far as the run could get, not a verified minimizer.
+	PenaltyII10BFGSCentralStalled
 	// PenaltyII10BFGSCentralOutOfIterations: the iteration limit came first.
 	PenaltyII10BFGSCentralOutOfIterations
 	// PenaltyII10BFGSCentralOutOfEvaluations: the next objective call would have exceeded the evaluation cap.
@@ -22,8 +22,10 @@ const (
 	PenaltyII10BFGSCentralNonFiniteStart
 	// PenaltyII10BFGSCentralNonFiniteGradient: a gradient component became NaN or ±Inf.
 	PenaltyII10BFGSCentralNonFiniteGradient
-	// PenaltyII10BFGSCentralNoDecrease: no step longer than the step limit decreased f, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test).
+	// PenaltyII10BFGSCentralNoDecrease: the line search found no acceptable step, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test).
 	PenaltyII10BFGSCentralNoDecrease
+	// PenaltyII10BFGSCentralDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
+	PenaltyII10BFGSCentralDiverged
 )
 
 // String describes the status in a few words.
@@ -31,8 +33,8 @@ func (s PenaltyII10BFGSCentralStatus) String() string {
 	switch s {
 	case PenaltyII10BFGSCentralGradientSmall:
 		return "gradient small"
-	case PenaltyII10BFGSCentralStepTiny:
-		return "step tiny"
+	case PenaltyII10BFGSCentralStalled:
+		return "stalled"
 	case PenaltyII10BFGSCentralOutOfIterations:
 		return "out of iterations"
 	case PenaltyII10BFGSCentralOutOfEvaluations:
@@ -45,28 +47,32 @@ func (s PenaltyII10BFGSCentralStatus) String() string {
 		return "non-finite gradient"
 	case PenaltyII10BFGSCentralNoDecrease:
 		return "no decrease"
+	case PenaltyII10BFGSCentralDiverged:
+		return "diverged"
 	default:
 		return "unknown status"
 	}
 }
 
-// Converged reports whether a convergence test, on the gradient or on the step, ended the run; limits, line-search failure and non-finite values are not convergence.
+// Converged reports whether the gradient test holds at X (Gradient ≤ GradientLimit in the result): only then is X a verified stationary point; a stall, the limits, line-search failure and non-finite values are not convergence.
 func (s PenaltyII10BFGSCentralStatus) Converged() bool {
-	return s == PenaltyII10BFGSCentralGradientSmall || s == PenaltyII10BFGSCentralStepTiny
+	return s == PenaltyII10BFGSCentralGradientSmall
 }
 
 // PenaltyII10BFGSCentralResult is where PenaltyII10BFGSCentral stopped and why.
 type PenaltyII10BFGSCentralResult struct {
-	X           [10]float64                  // the last accepted point, the best one found
-	F           float64                      // the objective at X
-	Iterations  int                          // accepted steps
-	Evaluations int                          // objective calls, finite differences included
-	Status      PenaltyII10BFGSCentralStatus // why the run stopped; check Status.Converged()
+	X             [10]float64                  // where the gradient test held, when converged; else the lowest point seen
+	F             float64                      // the objective at X
+	Gradient      float64                      // the gradient test's measure at X, the differences' error bound included; NaN when the run ended before the gradient at X was known
+	GradientLimit float64                      // the limit Gradient was held to: Limits.Gradient, raised with differences to ten times the measure of their error bound; converged runs have Gradient ≤ GradientLimit
+	Iterations    int                          // accepted steps
+	Evaluations   int                          // objective calls, finite differences included
+	Status        PenaltyII10BFGSCentralStatus // why the run stopped; check Status.Converged()
 }
 
 // PenaltyII10BFGSCentralLimits are the stop limits of one run. Pass them to PenaltyII10BFGSCentralWithLimits to change them at run time; PenaltyII10BFGSCentralDefaultLimits returns the spec's.
 type PenaltyII10BFGSCentralLimits struct {
-	Gradient    float64 // stop when the largest |∂f/∂xᵢ| is at most this
+	Gradient    float64 // stop, converged, when the gradient test's measure is at most this (with differences, at most ten times the measure of their error bound where that is larger)
 	Step        float64 // stop when every |Δxᵢ| is at most this·(|xᵢ| + 1)
 	Iterations  int     // most accepted steps
 	Evaluations int     // hard cap on objective calls, finite differences included; never exceeded
@@ -86,11 +92,12 @@ func PenaltyII10BFGSCentralDefaultLimits() PenaltyII10BFGSCentralLimits {
 //
 // Direction bfgs: BFGS quasi-Newton with a dense inverse-Hessian approximation (dim² numbers).
 // Step rule wolfe: bracket and zoom until sufficient decrease and the curvature condition hold.
-// Derivative central: central differences: 2·dim objective calls per gradient, error O(u^(2/3)).
+// Derivative central: central differences: 2·dim objective calls per gradient, intervals from the objective's curvature, error O(u^(2/3)).
+// Gradient test relative: max over i of (|∂f/∂xᵢ| + eᵢ)·max(|xᵢ|, 1)/max(|f(x)|, 1), eᵢ the error bound of differences (0 for an analytic gradient).
 // Constants: initial 1.0, c1 0.0001, c2 0.9, at most 48 trials per line search.
-// Default stop: largest gradient component ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
+// Default stop: gradient measure ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
 //
-// Worst case: 200000 objective calls, 20 of them per gradient (the evaluation cap; the iteration limit alone would allow 5040021). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
+// Worst case: 200000 objective calls, 20 of them per gradient and 40 per choice of the difference intervals (at the start and before each convergence is confirmed) (the evaluation cap; the iteration limit alone would allow 5441149). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
 func PenaltyII10BFGSCentral(x0 [10]float64) PenaltyII10BFGSCentralResult {
 	return PenaltyII10BFGSCentralWithLimits(x0, PenaltyII10BFGSCentralDefaultLimits())
@@ -100,11 +107,13 @@ func PenaltyII10BFGSCentral(x0 [10]float64) PenaltyII10BFGSCentralResult {
 func PenaltyII10BFGSCentralWithLimits(x0 [10]float64, limits PenaltyII10BFGSCentralLimits) PenaltyII10BFGSCentralResult {
 	out := penaltyII10BFGSCentralMinimize(x0, limits)
 	return PenaltyII10BFGSCentralResult{
-		Evaluations: out.evaluations,
-		F:           out.f,
-		Iterations:  out.iterations,
-		Status:      out.status,
-		X:           out.x,
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
 	}
 }
 
@@ -117,27 +126,40 @@ const (
 	penaltyII10BFGSCentralDerivativeCost = 20                     // objective calls per gradient
 	penaltyII10BFGSCentralUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
 	penaltyII10BFGSCentralLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
-	penaltyII10BFGSCentralCentralScale   = 4.806217383937352e-06  // ∛u, central-difference step scale (Nocedal & Wright 2006, §8.1)
 )
 
 // penaltyII10BFGSCentralMinimize runs the descent loop from x0 within lim:
 //
-//  1. stop when the largest gradient component is at most lim.Gradient;
+//  1. stop, converged, when the gradient measure (penaltyII10BFGSCentralGradientMeasure, error
+//     bound of differences included) is at most the limit: lim.Gradient,
+//     or three times the measure of the differences' error bound when that is
+//     larger, so that the limit can be met (the floor the test can see);
+//     differences confirm it first (penaltyII10BFGSCentralConfirmGradient);
 //  2. stop after lim.Iterations accepted steps;
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
-//  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged,
-//     unless f contradicts an analytic gradient: no decrease);
+//  4. search along d; stop when no trial is acceptable or only steps
+//     shorter than the step limit are left to try: stalled, or no
+//     decrease when f contradicts an analytic gradient (see penaltyII10BFGSCentralRiseTrend);
 //  5. move, refresh the gradient, let the direction learn from the step;
-//  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
+//  6. stop, stalled, when every |Δx_i| is at most lim.Step·(|x_i| + 1) while
+//     the gradient test still fails. At a stall the run settles first
+//     (settle): the error bound gains the rounding floor of x, with
+//     differences confirmed, and the limit rises to ten times the larger
+//     of lim.Gradient and the bound's measure; a gradient within that is
+//     as small as this point can show, and the run is converged with that
+//     limit, which it reports.
 //
-// Before every objective call it checks that lim.Evaluations leaves room
-// for it, so the cap is never exceeded. A NaN or ±Inf at the start or in a
+// Only step 1 is convergence: the first-order test holds at X. Before
+// every objective call it checks that lim.Evaluations leaves room for it,
+// so the cap is never exceeded. A NaN or ±Inf at the start or in a
 // gradient ends the run with its own status; a non-finite trial value is
-// rejected by the line search like any failed trial.
+// rejected by the line search like any failed trial. X is the best point
+// seen unless the run converged, which it did at X. A fixed step whose
+// value overflows, or that raised f above f(x0) at eight steps in a row,
+// ends the run as diverged (common practice for a divergence test).
 func penaltyII10BFGSCentralMinimize(x0 [10]float64, lim PenaltyII10BFGSCentralLimits) penaltyII10BFGSCentralOutcome {
-	out := penaltyII10BFGSCentralOutcome{x: x0, status: PenaltyII10BFGSCentralOutOfEvaluations}
+	out := penaltyII10BFGSCentralOutcome{x: x0, status: PenaltyII10BFGSCentralOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
@@ -148,11 +170,14 @@ func penaltyII10BFGSCentralMinimize(x0 [10]float64, lim PenaltyII10BFGSCentralLi
 		out.status = PenaltyII10BFGSCentralNonFiniteStart
 		return out
 	}
-	if out.evaluations+penaltyII10BFGSCentralDerivativeCost > lim.Evaluations {
+	var diffs penaltyII10BFGSCentralDifferences
+	calls, ok := penaltyII10BFGSCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
+	out.evaluations += calls
+	if !ok || out.evaluations+penaltyII10BFGSCentralDerivativeCost > lim.Evaluations {
 		return out
 	}
-	var g [10]float64
-	penaltyII10BFGSCentralDerivative(&x, fx, &g)
+	var g, e [10]float64
+	penaltyII10BFGSCentralDerivative(&x, fx, &g, &diffs)
 	out.evaluations += penaltyII10BFGSCentralDerivativeCost
 
 	if !penaltyII10BFGSCentralFiniteVec(&g) {
@@ -163,21 +188,76 @@ func penaltyII10BFGSCentralMinimize(x0 [10]float64, lim PenaltyII10BFGSCentralLi
 	dir.reset()
 	var d, xt, gt, s, y [10]float64
 	t, slope := float64(penaltyII10BFGSCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
+	best := out                                                        // the lowest point seen, for runs that end unconverged
+	start, rises := fx, 0                                              // f(x0), and consecutive accepted steps that raised f above it
+	confirmed := false                                                 // whether g and e at x come from penaltyII10BFGSCentralConfirmGradient
+	stalled := false                                                   // whether the run can make no more progress at x
+	retried := -1                                                      // the iteration whose stall was retried with recalibrated differences
 	for {
-		if penaltyII10BFGSCentralMaxAbs(&g) <= lim.Gradient {
+		if !confirmed {
+			penaltyII10BFGSCentralGradientError(&x, fx, &g, &e, &diffs)
+		}
+		measure, floor := penaltyII10BFGSCentralGradientMeasure(&g, &e, &x, fx)
+		out.gradient, out.gradientLimit = measure, penaltyII10BFGSCentralLarger(lim.Gradient, 3*floor)
+		if stalled {
+			// No step can make progress here: the gradient is as small as
+			// this point shows it, within ten times the limit or the floor.
+			out.gradientLimit = 10 * penaltyII10BFGSCentralLarger(lim.Gradient, floor)
+		}
+		if out.f <= best.f {
+			best = out
+		}
+		if measure <= out.gradientLimit && (penaltyII10BFGSCentralDerivativeCost == 0 || confirmed) {
 			out.status = PenaltyII10BFGSCentralGradientSmall
 			return out
 		}
-		if out.iterations > 0 {
+		if measure <= out.gradientLimit {
+			// Differences pass the test: confirm it with intervals chosen
+			// here and an error measured rather than modelled.
+			calls, ok := penaltyII10BFGSCentralConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(PenaltyII10BFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !penaltyII10BFGSCentralFiniteVec(&g) {
+				return best.ending(PenaltyII10BFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			confirmed = true
+			continue
+		}
+		if stalled {
+			// Settled and still above the limit: stalled, unless
+			// differences, whose intervals were just chosen here, can
+			// search once more with the better gradient.
+			if penaltyII10BFGSCentralDerivativeCost == 0 {
+				return best.ending(PenaltyII10BFGSCentralStalled, out.iterations, out.evaluations)
+			}
+			stalled, retried = false, out.iterations
+		}
+		// At a stall, settle first: the run is converged if the gradient
+		// is zero to the rounding of x (and, with differences, to their
+		// accuracy, confirmed); see settle.
+		canSettle := retried != out.iterations
+		if out.iterations > 0 && canSettle {
 			if penaltyII10BFGSCentralStepWithin(&s, &x, lim.Step) {
-				out.status = PenaltyII10BFGSCentralStepTiny
-				return out
+				calls, ok := penaltyII10BFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+				out.evaluations += calls
+				if !ok {
+					return best.ending(PenaltyII10BFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+				}
+				if !penaltyII10BFGSCentralFiniteVec(&g) {
+					return best.ending(PenaltyII10BFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
+				}
+				stalled, confirmed = true, true
+				continue
+			}
+			if rises >= 8 {
+				return best.ending(PenaltyII10BFGSCentralDiverged, out.iterations, out.evaluations)
 			}
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
-			out.status = PenaltyII10BFGSCentralOutOfIterations
-			return out
+			return best.ending(PenaltyII10BFGSCentralOutOfIterations, out.iterations, out.evaluations)
 		}
 		dir.compute(&g, &d)
 		now := penaltyII10BFGSCentralDot(&g, &d)
@@ -191,50 +271,70 @@ func penaltyII10BFGSCentralMinimize(x0 [10]float64, lim PenaltyII10BFGSCentralLi
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := penaltyII10BFGSCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := penaltyII10BFGSCentralLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt)
+		found := penaltyII10BFGSCentralLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case penaltyII10BFGSCentralSearchOutOfBudget:
-			return out
-		case penaltyII10BFGSCentralSearchExhausted:
-			out.status = PenaltyII10BFGSCentralNoAcceptableStep
-			return out
-		case penaltyII10BFGSCentralSearchTiny:
-			// Converged to the step limit: no step the step test would
-			// reject decreases f. Not so when an analytic gradient is
-			// contradicted by f rising in proportion to the step (see
-			// penaltyII10BFGSCentralRiseTrend, which never reports that for differences).
-			out.status = PenaltyII10BFGSCentralStepTiny
-			if found.rising {
-				out.status = PenaltyII10BFGSCentralNoDecrease
+			return best.ending(PenaltyII10BFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+		case penaltyII10BFGSCentralSearchDiverged:
+			return best.ending(PenaltyII10BFGSCentralDiverged, out.iterations, out.evaluations)
+		case penaltyII10BFGSCentralSearchExhausted, penaltyII10BFGSCentralSearchTiny:
+			// No acceptable step. When an analytic gradient predicted a
+			// fall that f contradicted in proportion to the step, the
+			// gradient is probably wrong (see penaltyII10BFGSCentralRiseTrend, which never
+			// reports that for differences); otherwise the search stalled
+			// below the step limit, or ran out of trials.
+			end := PenaltyII10BFGSCentralNoAcceptableStep
+			switch {
+			case found.rising:
+				end = PenaltyII10BFGSCentralNoDecrease
+			case found.end == penaltyII10BFGSCentralSearchTiny && canSettle:
+				calls, ok := penaltyII10BFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+				out.evaluations += calls
+				if !ok {
+					return best.ending(PenaltyII10BFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+				}
+				if !penaltyII10BFGSCentralFiniteVec(&g) {
+					return best.ending(PenaltyII10BFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
+				}
+				stalled, confirmed = true, true
+				continue
+			case found.end == penaltyII10BFGSCentralSearchTiny:
+				end = PenaltyII10BFGSCentralStalled
 			}
-			return out
+			return best.ending(end, out.iterations, out.evaluations)
 		}
 		if !penaltyII10BFGSCentralFiniteVec(&xt) {
-			out.status = PenaltyII10BFGSCentralNoAcceptableStep // the accepted trial overflowed x
-			return out
+			return best.ending(PenaltyII10BFGSCentralNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
 		}
 		if !found.gradient {
 			if out.evaluations+penaltyII10BFGSCentralDerivativeCost > lim.Evaluations {
-				if found.value < fx { // keep a better point even without its gradient
-					out.x, out.f = xt, found.value
+				if found.value < best.f { // keep a better point even without its gradient
+					best.x, best.f, best.gradient = xt, found.value, math.NaN()
 					out.iterations++
 				}
-				return out
+				return best.ending(PenaltyII10BFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			penaltyII10BFGSCentralDerivative(&xt, found.value, &gt)
+			penaltyII10BFGSCentralDerivative(&xt, found.value, &gt, &diffs)
 			out.evaluations += penaltyII10BFGSCentralDerivativeCost
 		}
 		out.iterations++
 		penaltyII10BFGSCentralDifference(&s, &xt, &x)
 		penaltyII10BFGSCentralDifference(&y, &gt, &g)
-		x, fx, g = xt, found.value, gt
-		out.x, out.f = x, fx
+		if found.value > fx && found.value > start {
+			rises++
+		} else {
+			rises = 0
+		}
+		x, fx, g, confirmed = xt, found.value, gt, false
+		out.x, out.f, out.gradient = x, fx, math.NaN()
 		t, slope = found.step, now
 
 		if !penaltyII10BFGSCentralFiniteVec(&g) {
-			out.status = PenaltyII10BFGSCentralNonFiniteGradient
-			return out
+			if out.f < best.f {
+				best = out
+			}
+			return best.ending(PenaltyII10BFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
 		}
 	}
 }
@@ -242,11 +342,19 @@ func penaltyII10BFGSCentralMinimize(x0 [10]float64, lim PenaltyII10BFGSCentralLi
 // penaltyII10BFGSCentralOutcome is the kernel's report; the generated entry point copies it into
 // the spec's result type.
 type penaltyII10BFGSCentralOutcome struct {
-	x           [10]float64
-	f           float64
-	iterations  int
-	evaluations int
-	status      PenaltyII10BFGSCentralStatus
+	x             [10]float64
+	f             float64
+	gradient      float64 // the stop test's measure at x, error bound included; NaN when not known
+	gradientLimit float64 // the limit that measure was held to
+	iterations    int
+	evaluations   int
+	status        PenaltyII10BFGSCentralStatus
+}
+
+// ending is the best point seen, reported with the run's end and counts.
+func (o penaltyII10BFGSCentralOutcome) ending(end PenaltyII10BFGSCentralStatus, iterations, evaluations int) penaltyII10BFGSCentralOutcome {
+	o.status, o.iterations, o.evaluations = end, iterations, evaluations
+	return o
 }
 
 // penaltyII10BFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
@@ -271,26 +379,81 @@ func penaltyII10BFGSCentralFiniteVec(x *[10]float64) bool {
 	return true
 }
 
-// penaltyII10BFGSCentralDerivative approximates the gradient by central differences,
+// penaltyII10BFGSCentralDifferences is what the difference gradients learn from the objective
+// at the start: for each coordinate i, the interval as a multiple of
+// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
+// forward differences, |f‴| for central ones). The analytic gradient
+// leaves it unused.
+type penaltyII10BFGSCentralDifferences struct {
+	ratio     [10]float64
+	curvature [10]float64
+	second    [10]float64 // |f″| along e_i, for the rounding floor of a stall (see penaltyII10BFGSCentralRoundingFloor)
+}
+
+// penaltyII10BFGSCentralCalibrate chooses each central-difference interval from the
+// third derivative along e_i, estimated at x with four probes at ±h̄ and
+// ±2h̄, h̄ = u^(1/4)·s, s = max(1, |x_i|):
 //
-//	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),  h_i = ∛u · max(1, |x_i|),
+//	f‴ ≈ (f(x + 2h̄eᵢ) − 2f(x + h̄eᵢ) + 2f(x − h̄eᵢ) − f(x − 2h̄eᵢ)) / (2h̄³),
+//	h_i  = ∛(3ε_A / |f‴|)
 //
-// with error O(h²) (Nocedal & Wright 2006, eq. 8.7 and §8.1). It costs
-// 2·dim objective calls; fx is not needed.
-func penaltyII10BFGSCentralDerivative(x *[10]float64, fx float64, g *[10]float64) {
+// the interval that minimizes the truncation error h²|f‴|/6 plus the
+// rounding error ε_A/h of a central difference (Nocedal & Wright 2006,
+// §8.1, with the third-derivative estimate of the forward interval's
+// procedure of Gill, Murray, Saunders & Wright 1983 carried one order
+// up), with ε_A from penaltyII10BFGSCentralNoiseLevel and the probes' slopes. An estimate below
+// its rounding noise 3ε_A/h̄³ is replaced by that noise, and h_i is kept
+// within [64u·s, h̄]. It costs four objective calls per unknown.
+func penaltyII10BFGSCentralCalibrate(x *[10]float64, fx float64, diffs *penaltyII10BFGSCentralDifferences, budget int) (int, bool) {
 	probe := *x
+	var slope [10]float64
+	scale := penaltyII10BFGSCentralAbs(fx)
+	quarter := penaltyII10BFGSCentralSquareRoot(penaltyII10BFGSCentralSquareRoot(penaltyII10BFGSCentralUnitRoundoff)) // u^(1/4)
 	for i := range probe {
+		if 4*(i+1) > budget {
+			return 4 * i, false
+		}
 		xi := probe[i]
-		h := penaltyII10BFGSCentralCentralScale * penaltyII10BFGSCentralLarger(1, penaltyII10BFGSCentralAbs(xi)) // N&W §8.1: h = ∛u·max(1,|x_i|)
-		up := xi + h
-		down := xi - h
-		probe[i] = up
-		fUp := PenaltyII10(&probe)
-		probe[i] = down
-		fDown := PenaltyII10(&probe)
-		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+		bar := quarter * penaltyII10BFGSCentralLarger(1, penaltyII10BFGSCentralAbs(xi))
+		var f [4]float64
+		for k, m := range [4]float64{2, 1, -1, -2} {
+			probe[i], _ = penaltyII10BFGSCentralProbeStep(xi, m*bar)
+			f[k] = PenaltyII10(&probe)
+			scale = penaltyII10BFGSCentralLarger(scale, penaltyII10BFGSCentralMagnitude(f[k]))
+		}
 		probe[i] = xi
+		if penaltyII10BFGSCentralFinite(f[0]) && penaltyII10BFGSCentralFinite(f[1]) && penaltyII10BFGSCentralFinite(f[2]) && penaltyII10BFGSCentralFinite(f[3]) {
+			diffs.curvature[i] = penaltyII10BFGSCentralAbs(f[0]-2*f[1]+2*f[2]-f[3]) / (2 * bar * bar * bar)
+			diffs.second[i] = penaltyII10BFGSCentralAbs(f[1]-2*fx+f[2]) / (bar * bar)
+			slope[i] = (f[1] - f[2]) / (2 * bar)
+		}
 	}
+	noise := penaltyII10BFGSCentralNoiseLevel(x, scale, &slope)
+	for i := range probe {
+		s := penaltyII10BFGSCentralLarger(1, penaltyII10BFGSCentralAbs(probe[i]))
+		bar := quarter * s
+		third := penaltyII10BFGSCentralLarger(diffs.curvature[i], 3*noise/(bar*bar*bar))
+		h := bar
+		if third > 0 {
+			h = penaltyII10BFGSCentralCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+		}
+		diffs.ratio[i] = penaltyII10BFGSCentralClampBetween(h, 64*penaltyII10BFGSCentralUnitRoundoff*s, bar) / s
+		diffs.curvature[i] = third
+	}
+	return 4 * len(probe), true
+}
+
+// penaltyII10BFGSCentralAbs returns |v|.
+func penaltyII10BFGSCentralAbs(v float64) float64 {
+	if v < 0 {
+		return -v
+	}
+	return v
+}
+
+// penaltyII10BFGSCentralSquareRoot returns √v.
+func penaltyII10BFGSCentralSquareRoot(v float64) float64 {
+	return math.Sqrt(v)
 }
 
 // penaltyII10BFGSCentralLarger returns the larger of a and b, or a NaN among them. The builtin
@@ -303,12 +466,81 @@ func penaltyII10BFGSCentralLarger(a, b float64) float64 {
 	return b
 }
 
-// penaltyII10BFGSCentralAbs returns |v|.
-func penaltyII10BFGSCentralAbs(v float64) float64 {
-	if v < 0 {
-		return -v
+// penaltyII10BFGSCentralProbeStep returns x_i moved by h, and the step actually representable.
+func penaltyII10BFGSCentralProbeStep(xi, h float64) (float64, float64) {
+	moved := xi + h
+	return moved, moved - xi
+}
+
+// penaltyII10BFGSCentralMagnitude is |v| for a finite v and 0 otherwise: a probe that fell
+// outside the objective's domain says nothing about its rounding.
+func penaltyII10BFGSCentralMagnitude(v float64) float64 {
+	if !penaltyII10BFGSCentralFinite(v) {
+		return 0
+	}
+	return penaltyII10BFGSCentralAbs(v)
+}
+
+// penaltyII10BFGSCentralNoiseLevel is the absolute error assumed in a computed value fx of the
+// objective at x, where its gradient is about g:
+//
+//	ε_A = 4u·(|fx| + Σᵢ |gᵢ·xᵢ|),
+//
+// a few roundings of the result plus the change that rounding each xᵢ by
+// a relative u makes in f, which is what an objective computed with
+// cancellation inside (y − x² in Rosenbrock's valley) shows near a zero
+// minimum, where u·|f| alone vanishes (the first-order error of
+// evaluating f at a rounded x; the factor 4 is common practice; Gill,
+// Murray, Saunders & Wright 1983 leave ε_A to the user).
+func penaltyII10BFGSCentralNoiseLevel(x *[10]float64, fx float64, g *[10]float64) float64 {
+	sum := penaltyII10BFGSCentralAbs(fx)
+	for i := range x {
+		sum += penaltyII10BFGSCentralAbs(g[i] * x[i])
+	}
+	return 4 * penaltyII10BFGSCentralUnitRoundoff * sum
+}
+
+// penaltyII10BFGSCentralCubeRoot returns ∛v for v ≥ 0.
+func penaltyII10BFGSCentralCubeRoot(v float64) float64 {
+	return math.Cbrt(v)
+}
+
+// penaltyII10BFGSCentralClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func penaltyII10BFGSCentralClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
 	}
 	return v
+}
+
+// penaltyII10BFGSCentralDerivative approximates the gradient by central differences,
+//
+//	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),
+//
+// with the intervals penaltyII10BFGSCentralCalibrate chose, h_i = ratio_i·max(1, |x_i|)
+// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls; fx is
+// not needed.
+func penaltyII10BFGSCentralDerivative(x *[10]float64, fx float64, g *[10]float64, diffs *penaltyII10BFGSCentralDifferences) {
+	probe := *x
+	for i := range probe {
+		xi := probe[i]
+		h := diffs.ratio[i] * penaltyII10BFGSCentralLarger(1, penaltyII10BFGSCentralAbs(xi))
+		up, _ := penaltyII10BFGSCentralProbeStep(xi, h)
+		down, _ := penaltyII10BFGSCentralProbeStep(xi, -h)
+		probe[i] = up
+		fUp := PenaltyII10(&probe)
+		probe[i] = down
+		fDown := PenaltyII10(&probe)
+		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+		probe[i] = xi
+	}
 }
 
 // penaltyII10BFGSCentralDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
@@ -401,15 +633,67 @@ func penaltyII10BFGSCentralCurvatureSafe(s, y *[10]float64) bool {
 	return sy > 0 && (sy/penaltyII10BFGSCentralDot(s, s))*(sy/penaltyII10BFGSCentralDot(y, y)) > penaltyII10BFGSCentralUnitRoundoff
 }
 
-// penaltyII10BFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
-func penaltyII10BFGSCentralMaxAbs(x *[10]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := penaltyII10BFGSCentralAbs(x[i]); a > m || a != a {
-			m = a
-		}
+// penaltyII10BFGSCentralGradientError bounds each central difference's error by twice its
+// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
+// in forwardError).
+func penaltyII10BFGSCentralGradientError(x *[10]float64, fx float64, g, e *[10]float64, diffs *penaltyII10BFGSCentralDifferences) {
+	noise := penaltyII10BFGSCentralNoiseLevel(x, fx, g)
+	for i := range e {
+		h := diffs.ratio[i] * penaltyII10BFGSCentralLarger(1, penaltyII10BFGSCentralAbs(x[i]))
+		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
 	}
-	return m
+}
+
+// penaltyII10BFGSCentralGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func penaltyII10BFGSCentralGradientMeasure(g, e, x *[10]float64, fx float64) (measure, floor float64) {
+	scale := penaltyII10BFGSCentralLarger(penaltyII10BFGSCentralAbs(fx), 1)
+	for i := range g {
+		w := penaltyII10BFGSCentralLarger(penaltyII10BFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = penaltyII10BFGSCentralLarger(measure, (penaltyII10BFGSCentralAbs(g[i])+e[i])*w)
+		floor = penaltyII10BFGSCentralLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// penaltyII10BFGSCentralConfirmGradient recomputes a difference gradient at x before the run is
+// called converged there: it chooses the intervals again from the
+// curvature at x (calibrate), computes g with them and with twice them,
+// and bounds each component's error by the model (penaltyII10BFGSCentralGradientError) plus
+// three times the change the doubling made. That change measures what the
+// model can miss, truncation from curvature that varies and rounding
+// noise above 4u·|f|; as one sample of that noise it is tripled
+// (Richardson's idea of comparing two intervals; the factor is common
+// practice for a posteriori error estimates). It costs a calibration and two
+// gradients, and returns the calls spent and false when budget ran out
+// first.
+func penaltyII10BFGSCentralConfirmGradient(x *[10]float64, fx float64, g, e *[10]float64, diffs *penaltyII10BFGSCentralDifferences, budget int) (int, bool) {
+	calls, ok := penaltyII10BFGSCentralCalibrate(x, fx, diffs, budget)
+	if !ok || calls+2*penaltyII10BFGSCentralDerivativeCost > budget {
+		return calls, false
+	}
+	wide := *diffs
+	for i := range wide.ratio {
+		wide.ratio[i] *= 2
+	}
+	var doubled [10]float64
+	penaltyII10BFGSCentralDerivative(x, fx, g, diffs)
+	penaltyII10BFGSCentralDerivative(x, fx, &doubled, &wide)
+	penaltyII10BFGSCentralGradientError(x, fx, g, e, diffs)
+	for i := range e {
+		e[i] += 3 * penaltyII10BFGSCentralAbs(g[i]-doubled[i])
+	}
+	return calls + 2*penaltyII10BFGSCentralDerivativeCost, true
 }
 
 // penaltyII10BFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
@@ -422,6 +706,43 @@ func penaltyII10BFGSCentralStepWithin(s, x *[10]float64, tol float64) bool {
 		}
 	}
 	return true
+}
+
+// penaltyII10BFGSCentralSettle prepares the final verdict at a stall: with differences it
+// confirms the gradient (penaltyII10BFGSCentralConfirmGradient), then it adds to each error
+// bound the rounding floor of x (penaltyII10BFGSCentralRoundingFloor). It returns the objective
+// calls spent and false when budget ran out first.
+func penaltyII10BFGSCentralSettle(x *[10]float64, fx float64, g, e *[10]float64, diffs *penaltyII10BFGSCentralDifferences, budget int) (int, bool) {
+	calls := 0
+	if penaltyII10BFGSCentralDerivativeCost > 0 {
+		spent, ok := penaltyII10BFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
+	}
+	penaltyII10BFGSCentralRoundingFloor(x, g, e, diffs)
+	return calls, true
+}
+
+// penaltyII10BFGSCentralRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
+// that moving xᵢ by a few of its rounding units makes in gᵢ:
+// where no step the step test resolves decreases f, a gradient that small
+// is zero to the rounding of x (the resolution of x in floating point,
+// common practice). It is added only at a stall, so a gradient far above
+// it still ends the run as stalled.
+func penaltyII10BFGSCentralRoundingFloor(x, g, e *[10]float64, diffs *penaltyII10BFGSCentralDifferences) {
+	var h [10]float64
+	penaltyII10BFGSCentralDiagonalCurvature(x, g, diffs, &h)
+	for i := range e {
+		e[i] += 4 * penaltyII10BFGSCentralUnitRoundoff * penaltyII10BFGSCentralAbs(x[i]) * h[i]
+	}
+}
+
+// penaltyII10BFGSCentralDiagonalCurvature takes each |f″| along eᵢ from the differences' last
+// calibration, which penaltyII10BFGSCentralConfirmGradient has just made at x.
+func penaltyII10BFGSCentralDiagonalCurvature(x, g *[10]float64, diffs *penaltyII10BFGSCentralDifferences, h *[10]float64) {
+	*h = diffs.second
 }
 
 // penaltyII10BFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
@@ -460,7 +781,7 @@ func penaltyII10BFGSCentralTinyStep(x, d *[10]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func penaltyII10BFGSCentralLineSearch(x *[10]float64, fx float64, d *[10]float64, slope, first, tiny float64, budget int, xt, gt *[10]float64) penaltyII10BFGSCentralLineResult {
+func penaltyII10BFGSCentralLineSearch(x *[10]float64, fx float64, d *[10]float64, slope, first, tiny float64, budget int, xt, gt *[10]float64, diffs *penaltyII10BFGSCentralDifferences) penaltyII10BFGSCentralLineResult {
 	low := penaltyII10BFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyII10BFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                     // ∇f at low, kept for accepting low from a collapsed bracket
@@ -492,7 +813,7 @@ func penaltyII10BFGSCentralLineSearch(x *[10]float64, fx float64, d *[10]float64
 			if calls+penaltyII10BFGSCentralDerivativeCost > budget {
 				return penaltyII10BFGSCentralLineResult{calls: calls, end: penaltyII10BFGSCentralSearchOutOfBudget}
 			}
-			penaltyII10BFGSCentralDerivative(xt, current.value, gt)
+			penaltyII10BFGSCentralDerivative(xt, current.value, gt, diffs)
 			calls += penaltyII10BFGSCentralDerivativeCost
 			current.slope, current.hasSlope = penaltyII10BFGSCentralDot(gt, d), true
 			switch {
@@ -517,7 +838,7 @@ func penaltyII10BFGSCentralLineSearch(x *[10]float64, fx float64, d *[10]float64
 	if low.step > 0 {
 		return penaltyII10BFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
 	}
-	return penaltyII10BFGSCentralLineResult{calls: calls, end: penaltyII10BFGSCentralSearchExhausted}
+	return penaltyII10BFGSCentralLineResult{calls: calls, rising: trend.contradicts(), end: penaltyII10BFGSCentralSearchExhausted}
 }
 
 // penaltyII10BFGSCentralLineResult is what a line search reports to the kernel.
@@ -618,6 +939,7 @@ const (
 	penaltyII10BFGSCentralSearchExhausted                                          // penaltyII10BFGSCentralStepTrials trials met none
 	penaltyII10BFGSCentralSearchOutOfBudget                                        // the evaluation cap came first
 	penaltyII10BFGSCentralSearchTiny                                               // every step longer than tiny failed to decrease f
+	penaltyII10BFGSCentralSearchDiverged                                           // a fixed step's value overflowed
 )
 
 // penaltyII10BFGSCentralAcceptLow ends a Wolfe search with its best trial, which met sufficient
@@ -683,26 +1005,6 @@ func penaltyII10BFGSCentralModelMinimizer(a, b *penaltyII10BFGSCentralLinePoint)
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, penaltyII10BFGSCentralFinite(t)
-}
-
-// penaltyII10BFGSCentralSquareRoot returns √v.
-func penaltyII10BFGSCentralSquareRoot(v float64) float64 {
-	return math.Sqrt(v)
-}
-
-// penaltyII10BFGSCentralClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func penaltyII10BFGSCentralClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // penaltyII10BFGSCentralExpandTrial picks a larger trial after current met sufficient decrease

@@ -8,10 +8,10 @@ import "math"
 type PenaltyII4LBFGSAnalyticStatus uint8
 
 const (
-	// PenaltyII4LBFGSAnalyticGradientSmall: the largest gradient component fell to the gradient limit: converged.
+	// PenaltyII4LBFGSAnalyticGradientSmall: the gradient test holds at X: its measure, with the differences' error bound when they are used, is at most the gradient limit: converged.
 	PenaltyII4LBFGSAnalyticGradientSmall PenaltyII4LBFGSAnalyticStatus = iota + 1
-	// PenaltyII4LBFGSAnalyticStepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f: converged.
-	PenaltyII4LBFGSAnalyticStepTiny
+	// PenaltyII4LBFGSAnalyticStalled: the step test ended the run, or no step longer than the step limit decreased f, while the gradient test still fails: X is as far as the run could get, not a verified minimizer.
+	PenaltyII4LBFGSAnalyticStalled
 	// PenaltyII4LBFGSAnalyticOutOfIterations: the iteration limit came first.
 	PenaltyII4LBFGSAnalyticOutOfIterations
 	// PenaltyII4LBFGSAnalyticOutOfEvaluations: the next objective call would have exceeded the evaluation cap.
@@ -22,8 +22,10 @@ const (
 	PenaltyII4LBFGSAnalyticNonFiniteStart
 	// PenaltyII4LBFGSAnalyticNonFiniteGradient: a gradient component became NaN or ±Inf.
 	PenaltyII4LBFGSAnalyticNonFiniteGradient
-	// PenaltyII4LBFGSAnalyticNoDecrease: no step longer than the step limit decreased f, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test).
+	// PenaltyII4LBFGSAnalyticNoDecrease: the line search found no acceptable step, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test).
 	PenaltyII4LBFGSAnalyticNoDecrease
+	// PenaltyII4LBFGSAnalyticDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
+	PenaltyII4LBFGSAnalyticDiverged
 )
 
 // String describes the status in a few words.
@@ -31,8 +33,8 @@ func (s PenaltyII4LBFGSAnalyticStatus) String() string {
 	switch s {
 	case PenaltyII4LBFGSAnalyticGradientSmall:
 		return "gradient small"
-	case PenaltyII4LBFGSAnalyticStepTiny:
-		return "step tiny"
+	case PenaltyII4LBFGSAnalyticStalled:
+		return "stalled"
 	case PenaltyII4LBFGSAnalyticOutOfIterations:
 		return "out of iterations"
 	case PenaltyII4LBFGSAnalyticOutOfEvaluations:
@@ -45,28 +47,32 @@ func (s PenaltyII4LBFGSAnalyticStatus) String() string {
 		return "non-finite gradient"
 	case PenaltyII4LBFGSAnalyticNoDecrease:
 		return "no decrease"
+	case PenaltyII4LBFGSAnalyticDiverged:
+		return "diverged"
 	default:
 		return "unknown status"
 	}
 }
 
-// Converged reports whether a convergence test, on the gradient or on the step, ended the run; limits, line-search failure and non-finite values are not convergence.
+// Converged reports whether the gradient test holds at X (Gradient ≤ GradientLimit in the result): only then is X a verified stationary point; a stall, the limits, line-search failure and non-finite values are not convergence.
 func (s PenaltyII4LBFGSAnalyticStatus) Converged() bool {
-	return s == PenaltyII4LBFGSAnalyticGradientSmall || s == PenaltyII4LBFGSAnalyticStepTiny
+	return s == PenaltyII4LBFGSAnalyticGradientSmall
 }
 
 // PenaltyII4LBFGSAnalyticResult is where PenaltyII4LBFGSAnalytic stopped and why.
 type PenaltyII4LBFGSAnalyticResult struct {
-	X           [4]float64                    // the last accepted point, the best one found
-	F           float64                       // the objective at X
-	Iterations  int                           // accepted steps
-	Evaluations int                           // objective calls, finite differences included
-	Status      PenaltyII4LBFGSAnalyticStatus // why the run stopped; check Status.Converged()
+	X             [4]float64                    // where the gradient test held, when converged; else the lowest point seen
+	F             float64                       // the objective at X
+	Gradient      float64                       // the gradient test's measure at X, the differences' error bound included; NaN when the run ended before the gradient at X was known
+	GradientLimit float64                       // the limit Gradient was held to: Limits.Gradient, raised with differences to ten times the measure of their error bound; converged runs have Gradient ≤ GradientLimit
+	Iterations    int                           // accepted steps
+	Evaluations   int                           // objective calls, finite differences included
+	Status        PenaltyII4LBFGSAnalyticStatus // why the run stopped; check Status.Converged()
 }
 
 // PenaltyII4LBFGSAnalyticLimits are the stop limits of one run. Pass them to PenaltyII4LBFGSAnalyticWithLimits to change them at run time; PenaltyII4LBFGSAnalyticDefaultLimits returns the spec's.
 type PenaltyII4LBFGSAnalyticLimits struct {
-	Gradient    float64 // stop when the largest |∂f/∂xᵢ| is at most this
+	Gradient    float64 // stop, converged, when the gradient test's measure is at most this (with differences, at most ten times the measure of their error bound where that is larger)
 	Step        float64 // stop when every |Δxᵢ| is at most this·(|xᵢ| + 1)
 	Iterations  int     // most accepted steps
 	Evaluations int     // hard cap on objective calls, finite differences included; never exceeded
@@ -87,10 +93,11 @@ func PenaltyII4LBFGSAnalyticDefaultLimits() PenaltyII4LBFGSAnalyticLimits {
 // Direction lbfgs: limited-memory BFGS: the last `memory` pairs, two-loop recursion (2·memory·dim numbers).
 // Step rule wolfe: bracket and zoom until sufficient decrease and the curvature condition hold.
 // Derivative analytic: the user's own gradient function (spec key `gradient`); costs no objective calls.
+// Gradient test relative: max over i of (|∂f/∂xᵢ| + eᵢ)·max(|xᵢ|, 1)/max(|f(x)|, 1), eᵢ the error bound of differences (0 for an analytic gradient).
 // Constants: initial 1.0, c1 0.0001, c2 0.9, at most 48 trials per line search, memory 5 pairs.
-// Default stop: largest gradient component ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
+// Default stop: gradient measure ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
 //
-// Worst case: 200000 objective calls (the evaluation cap; the iteration limit alone would allow 240001). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
+// Worst case: 200000 objective calls (the evaluation cap; the iteration limit alone would allow 240049). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
 func PenaltyII4LBFGSAnalytic(x0 [4]float64) PenaltyII4LBFGSAnalyticResult {
 	return PenaltyII4LBFGSAnalyticWithLimits(x0, PenaltyII4LBFGSAnalyticDefaultLimits())
@@ -100,11 +107,13 @@ func PenaltyII4LBFGSAnalytic(x0 [4]float64) PenaltyII4LBFGSAnalyticResult {
 func PenaltyII4LBFGSAnalyticWithLimits(x0 [4]float64, limits PenaltyII4LBFGSAnalyticLimits) PenaltyII4LBFGSAnalyticResult {
 	out := penaltyII4LBFGSAnalyticMinimize(x0, limits)
 	return PenaltyII4LBFGSAnalyticResult{
-		Evaluations: out.evaluations,
-		F:           out.f,
-		Iterations:  out.iterations,
-		Status:      out.status,
-		X:           out.x,
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
 	}
 }
 
@@ -122,22 +131,36 @@ const (
 
 // penaltyII4LBFGSAnalyticMinimize runs the descent loop from x0 within lim:
 //
-//  1. stop when the largest gradient component is at most lim.Gradient;
+//  1. stop, converged, when the gradient measure (penaltyII4LBFGSAnalyticGradientMeasure, error
+//     bound of differences included) is at most the limit: lim.Gradient,
+//     or three times the measure of the differences' error bound when that is
+//     larger, so that the limit can be met (the floor the test can see);
+//     differences confirm it first (penaltyII4LBFGSAnalyticConfirmGradient);
 //  2. stop after lim.Iterations accepted steps;
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
-//  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged,
-//     unless f contradicts an analytic gradient: no decrease);
+//  4. search along d; stop when no trial is acceptable or only steps
+//     shorter than the step limit are left to try: stalled, or no
+//     decrease when f contradicts an analytic gradient (see penaltyII4LBFGSAnalyticRiseTrend);
 //  5. move, refresh the gradient, let the direction learn from the step;
-//  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
+//  6. stop, stalled, when every |Δx_i| is at most lim.Step·(|x_i| + 1) while
+//     the gradient test still fails. At a stall the run settles first
+//     (settle): the error bound gains the rounding floor of x, with
+//     differences confirmed, and the limit rises to ten times the larger
+//     of lim.Gradient and the bound's measure; a gradient within that is
+//     as small as this point can show, and the run is converged with that
+//     limit, which it reports.
 //
-// Before every objective call it checks that lim.Evaluations leaves room
-// for it, so the cap is never exceeded. A NaN or ±Inf at the start or in a
+// Only step 1 is convergence: the first-order test holds at X. Before
+// every objective call it checks that lim.Evaluations leaves room for it,
+// so the cap is never exceeded. A NaN or ±Inf at the start or in a
 // gradient ends the run with its own status; a non-finite trial value is
-// rejected by the line search like any failed trial.
+// rejected by the line search like any failed trial. X is the best point
+// seen unless the run converged, which it did at X. A fixed step whose
+// value overflows, or that raised f above f(x0) at eight steps in a row,
+// ends the run as diverged (common practice for a divergence test).
 func penaltyII4LBFGSAnalyticMinimize(x0 [4]float64, lim PenaltyII4LBFGSAnalyticLimits) penaltyII4LBFGSAnalyticOutcome {
-	out := penaltyII4LBFGSAnalyticOutcome{x: x0, status: PenaltyII4LBFGSAnalyticOutOfEvaluations}
+	out := penaltyII4LBFGSAnalyticOutcome{x: x0, status: PenaltyII4LBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
@@ -148,11 +171,14 @@ func penaltyII4LBFGSAnalyticMinimize(x0 [4]float64, lim PenaltyII4LBFGSAnalyticL
 		out.status = PenaltyII4LBFGSAnalyticNonFiniteStart
 		return out
 	}
-	if out.evaluations+penaltyII4LBFGSAnalyticDerivativeCost > lim.Evaluations {
+	var diffs penaltyII4LBFGSAnalyticDifferences
+	calls, ok := penaltyII4LBFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
+	out.evaluations += calls
+	if !ok || out.evaluations+penaltyII4LBFGSAnalyticDerivativeCost > lim.Evaluations {
 		return out
 	}
-	var g [4]float64
-	penaltyII4LBFGSAnalyticDerivative(&x, fx, &g)
+	var g, e [4]float64
+	penaltyII4LBFGSAnalyticDerivative(&x, fx, &g, &diffs)
 	out.evaluations += penaltyII4LBFGSAnalyticDerivativeCost
 
 	if !penaltyII4LBFGSAnalyticFiniteVec(&g) {
@@ -163,21 +189,76 @@ func penaltyII4LBFGSAnalyticMinimize(x0 [4]float64, lim PenaltyII4LBFGSAnalyticL
 	dir.reset()
 	var d, xt, gt, s, y [4]float64
 	t, slope := float64(penaltyII4LBFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
+	best := out                                                         // the lowest point seen, for runs that end unconverged
+	start, rises := fx, 0                                               // f(x0), and consecutive accepted steps that raised f above it
+	confirmed := false                                                  // whether g and e at x come from penaltyII4LBFGSAnalyticConfirmGradient
+	stalled := false                                                    // whether the run can make no more progress at x
+	retried := -1                                                       // the iteration whose stall was retried with recalibrated differences
 	for {
-		if penaltyII4LBFGSAnalyticMaxAbs(&g) <= lim.Gradient {
+		if !confirmed {
+			penaltyII4LBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
+		}
+		measure, floor := penaltyII4LBFGSAnalyticGradientMeasure(&g, &e, &x, fx)
+		out.gradient, out.gradientLimit = measure, penaltyII4LBFGSAnalyticLarger(lim.Gradient, 3*floor)
+		if stalled {
+			// No step can make progress here: the gradient is as small as
+			// this point shows it, within ten times the limit or the floor.
+			out.gradientLimit = 10 * penaltyII4LBFGSAnalyticLarger(lim.Gradient, floor)
+		}
+		if out.f <= best.f {
+			best = out
+		}
+		if measure <= out.gradientLimit && (penaltyII4LBFGSAnalyticDerivativeCost == 0 || confirmed) {
 			out.status = PenaltyII4LBFGSAnalyticGradientSmall
 			return out
 		}
-		if out.iterations > 0 {
+		if measure <= out.gradientLimit {
+			// Differences pass the test: confirm it with intervals chosen
+			// here and an error measured rather than modelled.
+			calls, ok := penaltyII4LBFGSAnalyticConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(PenaltyII4LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !penaltyII4LBFGSAnalyticFiniteVec(&g) {
+				return best.ending(PenaltyII4LBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			confirmed = true
+			continue
+		}
+		if stalled {
+			// Settled and still above the limit: stalled, unless
+			// differences, whose intervals were just chosen here, can
+			// search once more with the better gradient.
+			if penaltyII4LBFGSAnalyticDerivativeCost == 0 {
+				return best.ending(PenaltyII4LBFGSAnalyticStalled, out.iterations, out.evaluations)
+			}
+			stalled, retried = false, out.iterations
+		}
+		// At a stall, settle first: the run is converged if the gradient
+		// is zero to the rounding of x (and, with differences, to their
+		// accuracy, confirmed); see settle.
+		canSettle := retried != out.iterations
+		if out.iterations > 0 && canSettle {
 			if penaltyII4LBFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				out.status = PenaltyII4LBFGSAnalyticStepTiny
-				return out
+				calls, ok := penaltyII4LBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+				out.evaluations += calls
+				if !ok {
+					return best.ending(PenaltyII4LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+				}
+				if !penaltyII4LBFGSAnalyticFiniteVec(&g) {
+					return best.ending(PenaltyII4LBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+				}
+				stalled, confirmed = true, true
+				continue
+			}
+			if rises >= 8 {
+				return best.ending(PenaltyII4LBFGSAnalyticDiverged, out.iterations, out.evaluations)
 			}
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
-			out.status = PenaltyII4LBFGSAnalyticOutOfIterations
-			return out
+			return best.ending(PenaltyII4LBFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
 		}
 		dir.compute(&g, &d)
 		now := penaltyII4LBFGSAnalyticDot(&g, &d)
@@ -191,50 +272,70 @@ func penaltyII4LBFGSAnalyticMinimize(x0 [4]float64, lim PenaltyII4LBFGSAnalyticL
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := penaltyII4LBFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := penaltyII4LBFGSAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt)
+		found := penaltyII4LBFGSAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case penaltyII4LBFGSAnalyticSearchOutOfBudget:
-			return out
-		case penaltyII4LBFGSAnalyticSearchExhausted:
-			out.status = PenaltyII4LBFGSAnalyticNoAcceptableStep
-			return out
-		case penaltyII4LBFGSAnalyticSearchTiny:
-			// Converged to the step limit: no step the step test would
-			// reject decreases f. Not so when an analytic gradient is
-			// contradicted by f rising in proportion to the step (see
-			// penaltyII4LBFGSAnalyticRiseTrend, which never reports that for differences).
-			out.status = PenaltyII4LBFGSAnalyticStepTiny
-			if found.rising {
-				out.status = PenaltyII4LBFGSAnalyticNoDecrease
+			return best.ending(PenaltyII4LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+		case penaltyII4LBFGSAnalyticSearchDiverged:
+			return best.ending(PenaltyII4LBFGSAnalyticDiverged, out.iterations, out.evaluations)
+		case penaltyII4LBFGSAnalyticSearchExhausted, penaltyII4LBFGSAnalyticSearchTiny:
+			// No acceptable step. When an analytic gradient predicted a
+			// fall that f contradicted in proportion to the step, the
+			// gradient is probably wrong (see penaltyII4LBFGSAnalyticRiseTrend, which never
+			// reports that for differences); otherwise the search stalled
+			// below the step limit, or ran out of trials.
+			end := PenaltyII4LBFGSAnalyticNoAcceptableStep
+			switch {
+			case found.rising:
+				end = PenaltyII4LBFGSAnalyticNoDecrease
+			case found.end == penaltyII4LBFGSAnalyticSearchTiny && canSettle:
+				calls, ok := penaltyII4LBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+				out.evaluations += calls
+				if !ok {
+					return best.ending(PenaltyII4LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+				}
+				if !penaltyII4LBFGSAnalyticFiniteVec(&g) {
+					return best.ending(PenaltyII4LBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+				}
+				stalled, confirmed = true, true
+				continue
+			case found.end == penaltyII4LBFGSAnalyticSearchTiny:
+				end = PenaltyII4LBFGSAnalyticStalled
 			}
-			return out
+			return best.ending(end, out.iterations, out.evaluations)
 		}
 		if !penaltyII4LBFGSAnalyticFiniteVec(&xt) {
-			out.status = PenaltyII4LBFGSAnalyticNoAcceptableStep // the accepted trial overflowed x
-			return out
+			return best.ending(PenaltyII4LBFGSAnalyticNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
 		}
 		if !found.gradient {
 			if out.evaluations+penaltyII4LBFGSAnalyticDerivativeCost > lim.Evaluations {
-				if found.value < fx { // keep a better point even without its gradient
-					out.x, out.f = xt, found.value
+				if found.value < best.f { // keep a better point even without its gradient
+					best.x, best.f, best.gradient = xt, found.value, math.NaN()
 					out.iterations++
 				}
-				return out
+				return best.ending(PenaltyII4LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			penaltyII4LBFGSAnalyticDerivative(&xt, found.value, &gt)
+			penaltyII4LBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
 			out.evaluations += penaltyII4LBFGSAnalyticDerivativeCost
 		}
 		out.iterations++
 		penaltyII4LBFGSAnalyticDifference(&s, &xt, &x)
 		penaltyII4LBFGSAnalyticDifference(&y, &gt, &g)
-		x, fx, g = xt, found.value, gt
-		out.x, out.f = x, fx
+		if found.value > fx && found.value > start {
+			rises++
+		} else {
+			rises = 0
+		}
+		x, fx, g, confirmed = xt, found.value, gt, false
+		out.x, out.f, out.gradient = x, fx, math.NaN()
 		t, slope = found.step, now
 
 		if !penaltyII4LBFGSAnalyticFiniteVec(&g) {
-			out.status = PenaltyII4LBFGSAnalyticNonFiniteGradient
-			return out
+			if out.f < best.f {
+				best = out
+			}
+			return best.ending(PenaltyII4LBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
 		}
 	}
 }
@@ -242,11 +343,19 @@ func penaltyII4LBFGSAnalyticMinimize(x0 [4]float64, lim PenaltyII4LBFGSAnalyticL
 // penaltyII4LBFGSAnalyticOutcome is the kernel's report; the generated entry point copies it into
 // the spec's result type.
 type penaltyII4LBFGSAnalyticOutcome struct {
-	x           [4]float64
-	f           float64
-	iterations  int
-	evaluations int
-	status      PenaltyII4LBFGSAnalyticStatus
+	x             [4]float64
+	f             float64
+	gradient      float64 // the stop test's measure at x, error bound included; NaN when not known
+	gradientLimit float64 // the limit that measure was held to
+	iterations    int
+	evaluations   int
+	status        PenaltyII4LBFGSAnalyticStatus
+}
+
+// ending is the best point seen, reported with the run's end and counts.
+func (o penaltyII4LBFGSAnalyticOutcome) ending(end PenaltyII4LBFGSAnalyticStatus, iterations, evaluations int) penaltyII4LBFGSAnalyticOutcome {
+	o.status, o.iterations, o.evaluations = end, iterations, evaluations
+	return o
 }
 
 // penaltyII4LBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
@@ -271,8 +380,24 @@ func penaltyII4LBFGSAnalyticFiniteVec(x *[4]float64) bool {
 	return true
 }
 
+// penaltyII4LBFGSAnalyticDifferences is what the difference gradients learn from the objective
+// at the start: for each coordinate i, the interval as a multiple of
+// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
+// forward differences, |f‴| for central ones). The analytic gradient
+// leaves it unused.
+type penaltyII4LBFGSAnalyticDifferences struct {
+	ratio     [4]float64
+	curvature [4]float64
+	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see penaltyII4LBFGSAnalyticRoundingFloor)
+}
+
+// penaltyII4LBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
+func penaltyII4LBFGSAnalyticCalibrate(x *[4]float64, fx float64, diffs *penaltyII4LBFGSAnalyticDifferences, budget int) (int, bool) {
+	return 0, true
+}
+
 // penaltyII4LBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func penaltyII4LBFGSAnalyticDerivative(x *[4]float64, fx float64, g *[4]float64) {
+func penaltyII4LBFGSAnalyticDerivative(x *[4]float64, fx float64, g *[4]float64, diffs *penaltyII4LBFGSAnalyticDifferences) {
 	PenaltyII4Grad(x, g)
 }
 
@@ -391,15 +516,43 @@ func penaltyII4LBFGSAnalyticCurvatureSafe(s, y *[4]float64) bool {
 	return sy > 0 && (sy/penaltyII4LBFGSAnalyticDot(s, s))*(sy/penaltyII4LBFGSAnalyticDot(y, y)) > penaltyII4LBFGSAnalyticUnitRoundoff
 }
 
-// penaltyII4LBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
-func penaltyII4LBFGSAnalyticMaxAbs(x *[4]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := penaltyII4LBFGSAnalyticAbs(x[i]); a > m || a != a {
-			m = a
-		}
+// penaltyII4LBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func penaltyII4LBFGSAnalyticGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *penaltyII4LBFGSAnalyticDifferences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return m
+}
+
+// penaltyII4LBFGSAnalyticGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func penaltyII4LBFGSAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
+	scale := penaltyII4LBFGSAnalyticLarger(penaltyII4LBFGSAnalyticAbs(fx), 1)
+	for i := range g {
+		w := penaltyII4LBFGSAnalyticLarger(penaltyII4LBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = penaltyII4LBFGSAnalyticLarger(measure, (penaltyII4LBFGSAnalyticAbs(g[i])+e[i])*w)
+		floor = penaltyII4LBFGSAnalyticLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// penaltyII4LBFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func penaltyII4LBFGSAnalyticLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
 }
 
 // penaltyII4LBFGSAnalyticAbs returns |v|.
@@ -408,6 +561,36 @@ func penaltyII4LBFGSAnalyticAbs(v float64) float64 {
 		return -v
 	}
 	return v
+}
+
+// penaltyII4LBFGSAnalyticConfirmGradient recomputes a difference gradient at x before the run is
+// called converged there: it chooses the intervals again from the
+// curvature at x (calibrate), computes g with them and with twice them,
+// and bounds each component's error by the model (penaltyII4LBFGSAnalyticGradientError) plus
+// three times the change the doubling made. That change measures what the
+// model can miss, truncation from curvature that varies and rounding
+// noise above 4u·|f|; as one sample of that noise it is tripled
+// (Richardson's idea of comparing two intervals; the factor is common
+// practice for a posteriori error estimates). It costs a calibration and two
+// gradients, and returns the calls spent and false when budget ran out
+// first.
+func penaltyII4LBFGSAnalyticConfirmGradient(x *[4]float64, fx float64, g, e *[4]float64, diffs *penaltyII4LBFGSAnalyticDifferences, budget int) (int, bool) {
+	calls, ok := penaltyII4LBFGSAnalyticCalibrate(x, fx, diffs, budget)
+	if !ok || calls+2*penaltyII4LBFGSAnalyticDerivativeCost > budget {
+		return calls, false
+	}
+	wide := *diffs
+	for i := range wide.ratio {
+		wide.ratio[i] *= 2
+	}
+	var doubled [4]float64
+	penaltyII4LBFGSAnalyticDerivative(x, fx, g, diffs)
+	penaltyII4LBFGSAnalyticDerivative(x, fx, &doubled, &wide)
+	penaltyII4LBFGSAnalyticGradientError(x, fx, g, e, diffs)
+	for i := range e {
+		e[i] += 3 * penaltyII4LBFGSAnalyticAbs(g[i]-doubled[i])
+	}
+	return calls + 2*penaltyII4LBFGSAnalyticDerivativeCost, true
 }
 
 // penaltyII4LBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
@@ -420,6 +603,65 @@ func penaltyII4LBFGSAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
 		}
 	}
 	return true
+}
+
+// penaltyII4LBFGSAnalyticSettle prepares the final verdict at a stall: with differences it
+// confirms the gradient (penaltyII4LBFGSAnalyticConfirmGradient), then it adds to each error
+// bound the rounding floor of x (penaltyII4LBFGSAnalyticRoundingFloor). It returns the objective
+// calls spent and false when budget ran out first.
+func penaltyII4LBFGSAnalyticSettle(x *[4]float64, fx float64, g, e *[4]float64, diffs *penaltyII4LBFGSAnalyticDifferences, budget int) (int, bool) {
+	calls := 0
+	if penaltyII4LBFGSAnalyticDerivativeCost > 0 {
+		spent, ok := penaltyII4LBFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
+	}
+	penaltyII4LBFGSAnalyticRoundingFloor(x, g, e, diffs)
+	return calls, true
+}
+
+// penaltyII4LBFGSAnalyticRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
+// that moving xᵢ by a few of its rounding units makes in gᵢ:
+// where no step the step test resolves decreases f, a gradient that small
+// is zero to the rounding of x (the resolution of x in floating point,
+// common practice). It is added only at a stall, so a gradient far above
+// it still ends the run as stalled.
+func penaltyII4LBFGSAnalyticRoundingFloor(x, g, e *[4]float64, diffs *penaltyII4LBFGSAnalyticDifferences) {
+	var h [4]float64
+	penaltyII4LBFGSAnalyticDiagonalCurvature(x, g, diffs, &h)
+	for i := range e {
+		e[i] += 4 * penaltyII4LBFGSAnalyticUnitRoundoff * penaltyII4LBFGSAnalyticAbs(x[i]) * h[i]
+	}
+}
+
+// penaltyII4LBFGSAnalyticDiagonalCurvature estimates each |∂²f/∂xᵢ²| from the analytic gradient
+// at x + δᵢeᵢ, δᵢ = √u·max(1, |xᵢ|): dim gradient calls and no objective
+// call (a forward difference of the gradient, Nocedal & Wright 2006,
+// §8.1).
+func penaltyII4LBFGSAnalyticDiagonalCurvature(x, g *[4]float64, diffs *penaltyII4LBFGSAnalyticDifferences, h *[4]float64) {
+	probe := *x
+	var moved [4]float64
+	for i := range probe {
+		xi := probe[i]
+		up, delta := penaltyII4LBFGSAnalyticProbeStep(xi, penaltyII4LBFGSAnalyticSquareRoot(penaltyII4LBFGSAnalyticUnitRoundoff)*penaltyII4LBFGSAnalyticLarger(1, penaltyII4LBFGSAnalyticAbs(xi)))
+		probe[i] = up
+		PenaltyII4Grad(&probe, &moved)
+		h[i] = penaltyII4LBFGSAnalyticAbs(moved[i]-g[i]) / delta
+		probe[i] = xi
+	}
+}
+
+// penaltyII4LBFGSAnalyticProbeStep returns x_i moved by h, and the step actually representable.
+func penaltyII4LBFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
+	moved := xi + h
+	return moved, moved - xi
+}
+
+// penaltyII4LBFGSAnalyticSquareRoot returns √v.
+func penaltyII4LBFGSAnalyticSquareRoot(v float64) float64 {
+	return math.Sqrt(v)
 }
 
 // penaltyII4LBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
@@ -458,7 +700,7 @@ func penaltyII4LBFGSAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func penaltyII4LBFGSAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64) penaltyII4LBFGSAnalyticLineResult {
+func penaltyII4LBFGSAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *penaltyII4LBFGSAnalyticDifferences) penaltyII4LBFGSAnalyticLineResult {
 	low := penaltyII4LBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyII4LBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                       // ∇f at low, kept for accepting low from a collapsed bracket
@@ -490,7 +732,7 @@ func penaltyII4LBFGSAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64,
 			if calls+penaltyII4LBFGSAnalyticDerivativeCost > budget {
 				return penaltyII4LBFGSAnalyticLineResult{calls: calls, end: penaltyII4LBFGSAnalyticSearchOutOfBudget}
 			}
-			penaltyII4LBFGSAnalyticDerivative(xt, current.value, gt)
+			penaltyII4LBFGSAnalyticDerivative(xt, current.value, gt, diffs)
 			calls += penaltyII4LBFGSAnalyticDerivativeCost
 			current.slope, current.hasSlope = penaltyII4LBFGSAnalyticDot(gt, d), true
 			switch {
@@ -515,7 +757,7 @@ func penaltyII4LBFGSAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64,
 	if low.step > 0 {
 		return penaltyII4LBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
 	}
-	return penaltyII4LBFGSAnalyticLineResult{calls: calls, end: penaltyII4LBFGSAnalyticSearchExhausted}
+	return penaltyII4LBFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: penaltyII4LBFGSAnalyticSearchExhausted}
 }
 
 // penaltyII4LBFGSAnalyticLineResult is what a line search reports to the kernel.
@@ -616,6 +858,7 @@ const (
 	penaltyII4LBFGSAnalyticSearchExhausted                                           // penaltyII4LBFGSAnalyticStepTrials trials met none
 	penaltyII4LBFGSAnalyticSearchOutOfBudget                                         // the evaluation cap came first
 	penaltyII4LBFGSAnalyticSearchTiny                                                // every step longer than tiny failed to decrease f
+	penaltyII4LBFGSAnalyticSearchDiverged                                            // a fixed step's value overflowed
 )
 
 // penaltyII4LBFGSAnalyticAcceptLow ends a Wolfe search with its best trial, which met sufficient
@@ -681,11 +924,6 @@ func penaltyII4LBFGSAnalyticModelMinimizer(a, b *penaltyII4LBFGSAnalyticLinePoin
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, penaltyII4LBFGSAnalyticFinite(t)
-}
-
-// penaltyII4LBFGSAnalyticSquareRoot returns √v.
-func penaltyII4LBFGSAnalyticSquareRoot(v float64) float64 {
-	return math.Sqrt(v)
 }
 
 // penaltyII4LBFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in

@@ -8,10 +8,10 @@ import "math"
 type PowellBadlyScaledCGAnalyticStatus uint8
 
 const (
-	// PowellBadlyScaledCGAnalyticGradientSmall: the largest gradient component fell to the gradient limit: converged.
+	// PowellBadlyScaledCGAnalyticGradientSmall: the gradient test holds at X: its measure, with the differences' error bound when they are used, is at most the gradient limit: converged.
 	PowellBadlyScaledCGAnalyticGradientSmall PowellBadlyScaledCGAnalyticStatus = iota + 1
-	// PowellBadlyScaledCGAnalyticStepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f: converged.
-	PowellBadlyScaledCGAnalyticStepTiny
+	// PowellBadlyScaledCGAnalyticStalled: the step test ended the run, or no step longer than the step limit decreased f, while the gradient test still fails: X is as far as the run could get, not a verified minimizer.
+	PowellBadlyScaledCGAnalyticStalled
 	// PowellBadlyScaledCGAnalyticOutOfIterations: the iteration limit came first.
 	PowellBadlyScaledCGAnalyticOutOfIterations
 	// PowellBadlyScaledCGAnalyticOutOfEvaluations: the next objective call would have exceeded the evaluation cap.
@@ -22,8 +22,10 @@ const (
 	PowellBadlyScaledCGAnalyticNonFiniteStart
 	// PowellBadlyScaledCGAnalyticNonFiniteGradient: a gradient component became NaN or ±Inf.
 	PowellBadlyScaledCGAnalyticNonFiniteGradient
-	// PowellBadlyScaledCGAnalyticNoDecrease: no step longer than the step limit decreased f, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test).
+	// PowellBadlyScaledCGAnalyticNoDecrease: the line search found no acceptable step, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test).
 	PowellBadlyScaledCGAnalyticNoDecrease
+	// PowellBadlyScaledCGAnalyticDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
+	PowellBadlyScaledCGAnalyticDiverged
 )
 
 // String describes the status in a few words.
@@ -31,8 +33,8 @@ func (s PowellBadlyScaledCGAnalyticStatus) String() string {
 	switch s {
 	case PowellBadlyScaledCGAnalyticGradientSmall:
 		return "gradient small"
-	case PowellBadlyScaledCGAnalyticStepTiny:
-		return "step tiny"
+	case PowellBadlyScaledCGAnalyticStalled:
+		return "stalled"
 	case PowellBadlyScaledCGAnalyticOutOfIterations:
 		return "out of iterations"
 	case PowellBadlyScaledCGAnalyticOutOfEvaluations:
@@ -45,28 +47,32 @@ func (s PowellBadlyScaledCGAnalyticStatus) String() string {
 		return "non-finite gradient"
 	case PowellBadlyScaledCGAnalyticNoDecrease:
 		return "no decrease"
+	case PowellBadlyScaledCGAnalyticDiverged:
+		return "diverged"
 	default:
 		return "unknown status"
 	}
 }
 
-// Converged reports whether a convergence test, on the gradient or on the step, ended the run; limits, line-search failure and non-finite values are not convergence.
+// Converged reports whether the gradient test holds at X (Gradient ≤ GradientLimit in the result): only then is X a verified stationary point; a stall, the limits, line-search failure and non-finite values are not convergence.
 func (s PowellBadlyScaledCGAnalyticStatus) Converged() bool {
-	return s == PowellBadlyScaledCGAnalyticGradientSmall || s == PowellBadlyScaledCGAnalyticStepTiny
+	return s == PowellBadlyScaledCGAnalyticGradientSmall
 }
 
 // PowellBadlyScaledCGAnalyticResult is where PowellBadlyScaledCGAnalytic stopped and why.
 type PowellBadlyScaledCGAnalyticResult struct {
-	X           [2]float64                        // the last accepted point, the best one found
-	F           float64                           // the objective at X
-	Iterations  int                               // accepted steps
-	Evaluations int                               // objective calls, finite differences included
-	Status      PowellBadlyScaledCGAnalyticStatus // why the run stopped; check Status.Converged()
+	X             [2]float64                        // where the gradient test held, when converged; else the lowest point seen
+	F             float64                           // the objective at X
+	Gradient      float64                           // the gradient test's measure at X, the differences' error bound included; NaN when the run ended before the gradient at X was known
+	GradientLimit float64                           // the limit Gradient was held to: Limits.Gradient, raised with differences to ten times the measure of their error bound; converged runs have Gradient ≤ GradientLimit
+	Iterations    int                               // accepted steps
+	Evaluations   int                               // objective calls, finite differences included
+	Status        PowellBadlyScaledCGAnalyticStatus // why the run stopped; check Status.Converged()
 }
 
 // PowellBadlyScaledCGAnalyticLimits are the stop limits of one run. Pass them to PowellBadlyScaledCGAnalyticWithLimits to change them at run time; PowellBadlyScaledCGAnalyticDefaultLimits returns the spec's.
 type PowellBadlyScaledCGAnalyticLimits struct {
-	Gradient    float64 // stop when the largest |∂f/∂xᵢ| is at most this
+	Gradient    float64 // stop, converged, when the gradient test's measure is at most this (with differences, at most ten times the measure of their error bound where that is larger)
 	Step        float64 // stop when every |Δxᵢ| is at most this·(|xᵢ| + 1)
 	Iterations  int     // most accepted steps
 	Evaluations int     // hard cap on objective calls, finite differences included; never exceeded
@@ -87,10 +93,11 @@ func PowellBadlyScaledCGAnalyticDefaultLimits() PowellBadlyScaledCGAnalyticLimit
 // Direction cg: nonlinear conjugate gradients, Polak–Ribière clipped at zero (PR+), restarted every dim steps.
 // Step rule strong-wolfe: bracket and zoom until sufficient decrease and the strong curvature condition hold.
 // Derivative analytic: the user's own gradient function (spec key `gradient`); costs no objective calls.
+// Gradient test relative: max over i of (|∂f/∂xᵢ| + eᵢ)·max(|xᵢ|, 1)/max(|f(x)|, 1), eᵢ the error bound of differences (0 for an analytic gradient).
 // Constants: initial 1.0, c1 0.0001, c2 0.1, at most 48 trials per line search.
-// Default stop: largest gradient component ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
+// Default stop: gradient measure ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
 //
-// Worst case: 200000 objective calls (the evaluation cap; the iteration limit alone would allow 240001). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
+// Worst case: 200000 objective calls (the evaluation cap; the iteration limit alone would allow 240049). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
 func PowellBadlyScaledCGAnalytic(x0 [2]float64) PowellBadlyScaledCGAnalyticResult {
 	return PowellBadlyScaledCGAnalyticWithLimits(x0, PowellBadlyScaledCGAnalyticDefaultLimits())
@@ -100,11 +107,13 @@ func PowellBadlyScaledCGAnalytic(x0 [2]float64) PowellBadlyScaledCGAnalyticResul
 func PowellBadlyScaledCGAnalyticWithLimits(x0 [2]float64, limits PowellBadlyScaledCGAnalyticLimits) PowellBadlyScaledCGAnalyticResult {
 	out := powellBadlyScaledCGAnalyticMinimize(x0, limits)
 	return PowellBadlyScaledCGAnalyticResult{
-		Evaluations: out.evaluations,
-		F:           out.f,
-		Iterations:  out.iterations,
-		Status:      out.status,
-		X:           out.x,
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
 	}
 }
 
@@ -121,22 +130,36 @@ const (
 
 // powellBadlyScaledCGAnalyticMinimize runs the descent loop from x0 within lim:
 //
-//  1. stop when the largest gradient component is at most lim.Gradient;
+//  1. stop, converged, when the gradient measure (powellBadlyScaledCGAnalyticGradientMeasure, error
+//     bound of differences included) is at most the limit: lim.Gradient,
+//     or three times the measure of the differences' error bound when that is
+//     larger, so that the limit can be met (the floor the test can see);
+//     differences confirm it first (powellBadlyScaledCGAnalyticConfirmGradient);
 //  2. stop after lim.Iterations accepted steps;
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
-//  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged,
-//     unless f contradicts an analytic gradient: no decrease);
+//  4. search along d; stop when no trial is acceptable or only steps
+//     shorter than the step limit are left to try: stalled, or no
+//     decrease when f contradicts an analytic gradient (see powellBadlyScaledCGAnalyticRiseTrend);
 //  5. move, refresh the gradient, let the direction learn from the step;
-//  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
+//  6. stop, stalled, when every |Δx_i| is at most lim.Step·(|x_i| + 1) while
+//     the gradient test still fails. At a stall the run settles first
+//     (settle): the error bound gains the rounding floor of x, with
+//     differences confirmed, and the limit rises to ten times the larger
+//     of lim.Gradient and the bound's measure; a gradient within that is
+//     as small as this point can show, and the run is converged with that
+//     limit, which it reports.
 //
-// Before every objective call it checks that lim.Evaluations leaves room
-// for it, so the cap is never exceeded. A NaN or ±Inf at the start or in a
+// Only step 1 is convergence: the first-order test holds at X. Before
+// every objective call it checks that lim.Evaluations leaves room for it,
+// so the cap is never exceeded. A NaN or ±Inf at the start or in a
 // gradient ends the run with its own status; a non-finite trial value is
-// rejected by the line search like any failed trial.
+// rejected by the line search like any failed trial. X is the best point
+// seen unless the run converged, which it did at X. A fixed step whose
+// value overflows, or that raised f above f(x0) at eight steps in a row,
+// ends the run as diverged (common practice for a divergence test).
 func powellBadlyScaledCGAnalyticMinimize(x0 [2]float64, lim PowellBadlyScaledCGAnalyticLimits) powellBadlyScaledCGAnalyticOutcome {
-	out := powellBadlyScaledCGAnalyticOutcome{x: x0, status: PowellBadlyScaledCGAnalyticOutOfEvaluations}
+	out := powellBadlyScaledCGAnalyticOutcome{x: x0, status: PowellBadlyScaledCGAnalyticOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
@@ -147,11 +170,14 @@ func powellBadlyScaledCGAnalyticMinimize(x0 [2]float64, lim PowellBadlyScaledCGA
 		out.status = PowellBadlyScaledCGAnalyticNonFiniteStart
 		return out
 	}
-	if out.evaluations+powellBadlyScaledCGAnalyticDerivativeCost > lim.Evaluations {
+	var diffs powellBadlyScaledCGAnalyticDifferences
+	calls, ok := powellBadlyScaledCGAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
+	out.evaluations += calls
+	if !ok || out.evaluations+powellBadlyScaledCGAnalyticDerivativeCost > lim.Evaluations {
 		return out
 	}
-	var g [2]float64
-	powellBadlyScaledCGAnalyticDerivative(&x, fx, &g)
+	var g, e [2]float64
+	powellBadlyScaledCGAnalyticDerivative(&x, fx, &g, &diffs)
 	out.evaluations += powellBadlyScaledCGAnalyticDerivativeCost
 
 	if !powellBadlyScaledCGAnalyticFiniteVec(&g) {
@@ -162,21 +188,76 @@ func powellBadlyScaledCGAnalyticMinimize(x0 [2]float64, lim PowellBadlyScaledCGA
 	dir.reset()
 	var d, xt, gt, s, y [2]float64
 	t, slope := float64(powellBadlyScaledCGAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
+	best := out                                                             // the lowest point seen, for runs that end unconverged
+	start, rises := fx, 0                                                   // f(x0), and consecutive accepted steps that raised f above it
+	confirmed := false                                                      // whether g and e at x come from powellBadlyScaledCGAnalyticConfirmGradient
+	stalled := false                                                        // whether the run can make no more progress at x
+	retried := -1                                                           // the iteration whose stall was retried with recalibrated differences
 	for {
-		if powellBadlyScaledCGAnalyticMaxAbs(&g) <= lim.Gradient {
+		if !confirmed {
+			powellBadlyScaledCGAnalyticGradientError(&x, fx, &g, &e, &diffs)
+		}
+		measure, floor := powellBadlyScaledCGAnalyticGradientMeasure(&g, &e, &x, fx)
+		out.gradient, out.gradientLimit = measure, powellBadlyScaledCGAnalyticLarger(lim.Gradient, 3*floor)
+		if stalled {
+			// No step can make progress here: the gradient is as small as
+			// this point shows it, within ten times the limit or the floor.
+			out.gradientLimit = 10 * powellBadlyScaledCGAnalyticLarger(lim.Gradient, floor)
+		}
+		if out.f <= best.f {
+			best = out
+		}
+		if measure <= out.gradientLimit && (powellBadlyScaledCGAnalyticDerivativeCost == 0 || confirmed) {
 			out.status = PowellBadlyScaledCGAnalyticGradientSmall
 			return out
 		}
-		if out.iterations > 0 {
+		if measure <= out.gradientLimit {
+			// Differences pass the test: confirm it with intervals chosen
+			// here and an error measured rather than modelled.
+			calls, ok := powellBadlyScaledCGAnalyticConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(PowellBadlyScaledCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !powellBadlyScaledCGAnalyticFiniteVec(&g) {
+				return best.ending(PowellBadlyScaledCGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			confirmed = true
+			continue
+		}
+		if stalled {
+			// Settled and still above the limit: stalled, unless
+			// differences, whose intervals were just chosen here, can
+			// search once more with the better gradient.
+			if powellBadlyScaledCGAnalyticDerivativeCost == 0 {
+				return best.ending(PowellBadlyScaledCGAnalyticStalled, out.iterations, out.evaluations)
+			}
+			stalled, retried = false, out.iterations
+		}
+		// At a stall, settle first: the run is converged if the gradient
+		// is zero to the rounding of x (and, with differences, to their
+		// accuracy, confirmed); see settle.
+		canSettle := retried != out.iterations
+		if out.iterations > 0 && canSettle {
 			if powellBadlyScaledCGAnalyticStepWithin(&s, &x, lim.Step) {
-				out.status = PowellBadlyScaledCGAnalyticStepTiny
-				return out
+				calls, ok := powellBadlyScaledCGAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+				out.evaluations += calls
+				if !ok {
+					return best.ending(PowellBadlyScaledCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+				}
+				if !powellBadlyScaledCGAnalyticFiniteVec(&g) {
+					return best.ending(PowellBadlyScaledCGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+				}
+				stalled, confirmed = true, true
+				continue
+			}
+			if rises >= 8 {
+				return best.ending(PowellBadlyScaledCGAnalyticDiverged, out.iterations, out.evaluations)
 			}
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
-			out.status = PowellBadlyScaledCGAnalyticOutOfIterations
-			return out
+			return best.ending(PowellBadlyScaledCGAnalyticOutOfIterations, out.iterations, out.evaluations)
 		}
 		dir.compute(&g, &d)
 		now := powellBadlyScaledCGAnalyticDot(&g, &d)
@@ -190,50 +271,70 @@ func powellBadlyScaledCGAnalyticMinimize(x0 [2]float64, lim PowellBadlyScaledCGA
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := powellBadlyScaledCGAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := powellBadlyScaledCGAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt)
+		found := powellBadlyScaledCGAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case powellBadlyScaledCGAnalyticSearchOutOfBudget:
-			return out
-		case powellBadlyScaledCGAnalyticSearchExhausted:
-			out.status = PowellBadlyScaledCGAnalyticNoAcceptableStep
-			return out
-		case powellBadlyScaledCGAnalyticSearchTiny:
-			// Converged to the step limit: no step the step test would
-			// reject decreases f. Not so when an analytic gradient is
-			// contradicted by f rising in proportion to the step (see
-			// powellBadlyScaledCGAnalyticRiseTrend, which never reports that for differences).
-			out.status = PowellBadlyScaledCGAnalyticStepTiny
-			if found.rising {
-				out.status = PowellBadlyScaledCGAnalyticNoDecrease
+			return best.ending(PowellBadlyScaledCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+		case powellBadlyScaledCGAnalyticSearchDiverged:
+			return best.ending(PowellBadlyScaledCGAnalyticDiverged, out.iterations, out.evaluations)
+		case powellBadlyScaledCGAnalyticSearchExhausted, powellBadlyScaledCGAnalyticSearchTiny:
+			// No acceptable step. When an analytic gradient predicted a
+			// fall that f contradicted in proportion to the step, the
+			// gradient is probably wrong (see powellBadlyScaledCGAnalyticRiseTrend, which never
+			// reports that for differences); otherwise the search stalled
+			// below the step limit, or ran out of trials.
+			end := PowellBadlyScaledCGAnalyticNoAcceptableStep
+			switch {
+			case found.rising:
+				end = PowellBadlyScaledCGAnalyticNoDecrease
+			case found.end == powellBadlyScaledCGAnalyticSearchTiny && canSettle:
+				calls, ok := powellBadlyScaledCGAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+				out.evaluations += calls
+				if !ok {
+					return best.ending(PowellBadlyScaledCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+				}
+				if !powellBadlyScaledCGAnalyticFiniteVec(&g) {
+					return best.ending(PowellBadlyScaledCGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+				}
+				stalled, confirmed = true, true
+				continue
+			case found.end == powellBadlyScaledCGAnalyticSearchTiny:
+				end = PowellBadlyScaledCGAnalyticStalled
 			}
-			return out
+			return best.ending(end, out.iterations, out.evaluations)
 		}
 		if !powellBadlyScaledCGAnalyticFiniteVec(&xt) {
-			out.status = PowellBadlyScaledCGAnalyticNoAcceptableStep // the accepted trial overflowed x
-			return out
+			return best.ending(PowellBadlyScaledCGAnalyticNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
 		}
 		if !found.gradient {
 			if out.evaluations+powellBadlyScaledCGAnalyticDerivativeCost > lim.Evaluations {
-				if found.value < fx { // keep a better point even without its gradient
-					out.x, out.f = xt, found.value
+				if found.value < best.f { // keep a better point even without its gradient
+					best.x, best.f, best.gradient = xt, found.value, math.NaN()
 					out.iterations++
 				}
-				return out
+				return best.ending(PowellBadlyScaledCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			powellBadlyScaledCGAnalyticDerivative(&xt, found.value, &gt)
+			powellBadlyScaledCGAnalyticDerivative(&xt, found.value, &gt, &diffs)
 			out.evaluations += powellBadlyScaledCGAnalyticDerivativeCost
 		}
 		out.iterations++
 		powellBadlyScaledCGAnalyticDifference(&s, &xt, &x)
 		powellBadlyScaledCGAnalyticDifference(&y, &gt, &g)
-		x, fx, g = xt, found.value, gt
-		out.x, out.f = x, fx
+		if found.value > fx && found.value > start {
+			rises++
+		} else {
+			rises = 0
+		}
+		x, fx, g, confirmed = xt, found.value, gt, false
+		out.x, out.f, out.gradient = x, fx, math.NaN()
 		t, slope = found.step, now
 
 		if !powellBadlyScaledCGAnalyticFiniteVec(&g) {
-			out.status = PowellBadlyScaledCGAnalyticNonFiniteGradient
-			return out
+			if out.f < best.f {
+				best = out
+			}
+			return best.ending(PowellBadlyScaledCGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
 		}
 	}
 }
@@ -241,11 +342,19 @@ func powellBadlyScaledCGAnalyticMinimize(x0 [2]float64, lim PowellBadlyScaledCGA
 // powellBadlyScaledCGAnalyticOutcome is the kernel's report; the generated entry point copies it into
 // the spec's result type.
 type powellBadlyScaledCGAnalyticOutcome struct {
-	x           [2]float64
-	f           float64
-	iterations  int
-	evaluations int
-	status      PowellBadlyScaledCGAnalyticStatus
+	x             [2]float64
+	f             float64
+	gradient      float64 // the stop test's measure at x, error bound included; NaN when not known
+	gradientLimit float64 // the limit that measure was held to
+	iterations    int
+	evaluations   int
+	status        PowellBadlyScaledCGAnalyticStatus
+}
+
+// ending is the best point seen, reported with the run's end and counts.
+func (o powellBadlyScaledCGAnalyticOutcome) ending(end PowellBadlyScaledCGAnalyticStatus, iterations, evaluations int) powellBadlyScaledCGAnalyticOutcome {
+	o.status, o.iterations, o.evaluations = end, iterations, evaluations
+	return o
 }
 
 // powellBadlyScaledCGAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
@@ -270,8 +379,24 @@ func powellBadlyScaledCGAnalyticFiniteVec(x *[2]float64) bool {
 	return true
 }
 
+// powellBadlyScaledCGAnalyticDifferences is what the difference gradients learn from the objective
+// at the start: for each coordinate i, the interval as a multiple of
+// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
+// forward differences, |f‴| for central ones). The analytic gradient
+// leaves it unused.
+type powellBadlyScaledCGAnalyticDifferences struct {
+	ratio     [2]float64
+	curvature [2]float64
+	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see powellBadlyScaledCGAnalyticRoundingFloor)
+}
+
+// powellBadlyScaledCGAnalyticCalibrate: an analytic gradient needs no intervals.
+func powellBadlyScaledCGAnalyticCalibrate(x *[2]float64, fx float64, diffs *powellBadlyScaledCGAnalyticDifferences, budget int) (int, bool) {
+	return 0, true
+}
+
 // powellBadlyScaledCGAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func powellBadlyScaledCGAnalyticDerivative(x *[2]float64, fx float64, g *[2]float64) {
+func powellBadlyScaledCGAnalyticDerivative(x *[2]float64, fx float64, g *[2]float64, diffs *powellBadlyScaledCGAnalyticDifferences) {
 	PowellBadlyScaledGrad(x, g)
 }
 
@@ -357,15 +482,33 @@ func powellBadlyScaledCGAnalyticScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
-// powellBadlyScaledCGAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
-func powellBadlyScaledCGAnalyticMaxAbs(x *[2]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := powellBadlyScaledCGAnalyticAbs(x[i]); a > m || a != a {
-			m = a
-		}
+// powellBadlyScaledCGAnalyticGradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func powellBadlyScaledCGAnalyticGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *powellBadlyScaledCGAnalyticDifferences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return m
+}
+
+// powellBadlyScaledCGAnalyticGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func powellBadlyScaledCGAnalyticGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
+	scale := powellBadlyScaledCGAnalyticLarger(powellBadlyScaledCGAnalyticAbs(fx), 1)
+	for i := range g {
+		w := powellBadlyScaledCGAnalyticLarger(powellBadlyScaledCGAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = powellBadlyScaledCGAnalyticLarger(measure, (powellBadlyScaledCGAnalyticAbs(g[i])+e[i])*w)
+		floor = powellBadlyScaledCGAnalyticLarger(floor, e[i]*w)
+	}
+	return measure, floor
 }
 
 // powellBadlyScaledCGAnalyticAbs returns |v|.
@@ -374,6 +517,36 @@ func powellBadlyScaledCGAnalyticAbs(v float64) float64 {
 		return -v
 	}
 	return v
+}
+
+// powellBadlyScaledCGAnalyticConfirmGradient recomputes a difference gradient at x before the run is
+// called converged there: it chooses the intervals again from the
+// curvature at x (calibrate), computes g with them and with twice them,
+// and bounds each component's error by the model (powellBadlyScaledCGAnalyticGradientError) plus
+// three times the change the doubling made. That change measures what the
+// model can miss, truncation from curvature that varies and rounding
+// noise above 4u·|f|; as one sample of that noise it is tripled
+// (Richardson's idea of comparing two intervals; the factor is common
+// practice for a posteriori error estimates). It costs a calibration and two
+// gradients, and returns the calls spent and false when budget ran out
+// first.
+func powellBadlyScaledCGAnalyticConfirmGradient(x *[2]float64, fx float64, g, e *[2]float64, diffs *powellBadlyScaledCGAnalyticDifferences, budget int) (int, bool) {
+	calls, ok := powellBadlyScaledCGAnalyticCalibrate(x, fx, diffs, budget)
+	if !ok || calls+2*powellBadlyScaledCGAnalyticDerivativeCost > budget {
+		return calls, false
+	}
+	wide := *diffs
+	for i := range wide.ratio {
+		wide.ratio[i] *= 2
+	}
+	var doubled [2]float64
+	powellBadlyScaledCGAnalyticDerivative(x, fx, g, diffs)
+	powellBadlyScaledCGAnalyticDerivative(x, fx, &doubled, &wide)
+	powellBadlyScaledCGAnalyticGradientError(x, fx, g, e, diffs)
+	for i := range e {
+		e[i] += 3 * powellBadlyScaledCGAnalyticAbs(g[i]-doubled[i])
+	}
+	return calls + 2*powellBadlyScaledCGAnalyticDerivativeCost, true
 }
 
 // powellBadlyScaledCGAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
@@ -386,6 +559,65 @@ func powellBadlyScaledCGAnalyticStepWithin(s, x *[2]float64, tol float64) bool {
 		}
 	}
 	return true
+}
+
+// powellBadlyScaledCGAnalyticSettle prepares the final verdict at a stall: with differences it
+// confirms the gradient (powellBadlyScaledCGAnalyticConfirmGradient), then it adds to each error
+// bound the rounding floor of x (powellBadlyScaledCGAnalyticRoundingFloor). It returns the objective
+// calls spent and false when budget ran out first.
+func powellBadlyScaledCGAnalyticSettle(x *[2]float64, fx float64, g, e *[2]float64, diffs *powellBadlyScaledCGAnalyticDifferences, budget int) (int, bool) {
+	calls := 0
+	if powellBadlyScaledCGAnalyticDerivativeCost > 0 {
+		spent, ok := powellBadlyScaledCGAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
+	}
+	powellBadlyScaledCGAnalyticRoundingFloor(x, g, e, diffs)
+	return calls, true
+}
+
+// powellBadlyScaledCGAnalyticRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
+// that moving xᵢ by a few of its rounding units makes in gᵢ:
+// where no step the step test resolves decreases f, a gradient that small
+// is zero to the rounding of x (the resolution of x in floating point,
+// common practice). It is added only at a stall, so a gradient far above
+// it still ends the run as stalled.
+func powellBadlyScaledCGAnalyticRoundingFloor(x, g, e *[2]float64, diffs *powellBadlyScaledCGAnalyticDifferences) {
+	var h [2]float64
+	powellBadlyScaledCGAnalyticDiagonalCurvature(x, g, diffs, &h)
+	for i := range e {
+		e[i] += 4 * powellBadlyScaledCGAnalyticUnitRoundoff * powellBadlyScaledCGAnalyticAbs(x[i]) * h[i]
+	}
+}
+
+// powellBadlyScaledCGAnalyticDiagonalCurvature estimates each |∂²f/∂xᵢ²| from the analytic gradient
+// at x + δᵢeᵢ, δᵢ = √u·max(1, |xᵢ|): dim gradient calls and no objective
+// call (a forward difference of the gradient, Nocedal & Wright 2006,
+// §8.1).
+func powellBadlyScaledCGAnalyticDiagonalCurvature(x, g *[2]float64, diffs *powellBadlyScaledCGAnalyticDifferences, h *[2]float64) {
+	probe := *x
+	var moved [2]float64
+	for i := range probe {
+		xi := probe[i]
+		up, delta := powellBadlyScaledCGAnalyticProbeStep(xi, powellBadlyScaledCGAnalyticSquareRoot(powellBadlyScaledCGAnalyticUnitRoundoff)*powellBadlyScaledCGAnalyticLarger(1, powellBadlyScaledCGAnalyticAbs(xi)))
+		probe[i] = up
+		PowellBadlyScaledGrad(&probe, &moved)
+		h[i] = powellBadlyScaledCGAnalyticAbs(moved[i]-g[i]) / delta
+		probe[i] = xi
+	}
+}
+
+// powellBadlyScaledCGAnalyticProbeStep returns x_i moved by h, and the step actually representable.
+func powellBadlyScaledCGAnalyticProbeStep(xi, h float64) (float64, float64) {
+	moved := xi + h
+	return moved, moved - xi
+}
+
+// powellBadlyScaledCGAnalyticSquareRoot returns √v.
+func powellBadlyScaledCGAnalyticSquareRoot(v float64) float64 {
+	return math.Sqrt(v)
 }
 
 // powellBadlyScaledCGAnalyticTinyStep returns the longest t for which the step t·d from x passes the
@@ -424,7 +656,7 @@ func powellBadlyScaledCGAnalyticTinyStep(x, d *[2]float64, tol float64) float64 
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func powellBadlyScaledCGAnalyticLineSearch(x *[2]float64, fx float64, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64) powellBadlyScaledCGAnalyticLineResult {
+func powellBadlyScaledCGAnalyticLineSearch(x *[2]float64, fx float64, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *powellBadlyScaledCGAnalyticDifferences) powellBadlyScaledCGAnalyticLineResult {
 	low := powellBadlyScaledCGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high powellBadlyScaledCGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                           // ∇f at low, kept for accepting low from a collapsed bracket
@@ -456,7 +688,7 @@ func powellBadlyScaledCGAnalyticLineSearch(x *[2]float64, fx float64, d *[2]floa
 			if calls+powellBadlyScaledCGAnalyticDerivativeCost > budget {
 				return powellBadlyScaledCGAnalyticLineResult{calls: calls, end: powellBadlyScaledCGAnalyticSearchOutOfBudget}
 			}
-			powellBadlyScaledCGAnalyticDerivative(xt, current.value, gt)
+			powellBadlyScaledCGAnalyticDerivative(xt, current.value, gt, diffs)
 			calls += powellBadlyScaledCGAnalyticDerivativeCost
 			current.slope, current.hasSlope = powellBadlyScaledCGAnalyticDot(gt, d), true
 			switch {
@@ -481,7 +713,7 @@ func powellBadlyScaledCGAnalyticLineSearch(x *[2]float64, fx float64, d *[2]floa
 	if low.step > 0 {
 		return powellBadlyScaledCGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
 	}
-	return powellBadlyScaledCGAnalyticLineResult{calls: calls, end: powellBadlyScaledCGAnalyticSearchExhausted}
+	return powellBadlyScaledCGAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: powellBadlyScaledCGAnalyticSearchExhausted}
 }
 
 // powellBadlyScaledCGAnalyticLineResult is what a line search reports to the kernel.
@@ -582,6 +814,7 @@ const (
 	powellBadlyScaledCGAnalyticSearchExhausted                                               // powellBadlyScaledCGAnalyticStepTrials trials met none
 	powellBadlyScaledCGAnalyticSearchOutOfBudget                                             // the evaluation cap came first
 	powellBadlyScaledCGAnalyticSearchTiny                                                    // every step longer than tiny failed to decrease f
+	powellBadlyScaledCGAnalyticSearchDiverged                                                // a fixed step's value overflowed
 )
 
 // powellBadlyScaledCGAnalyticAcceptLow ends a Wolfe search with its best trial, which met sufficient
@@ -647,11 +880,6 @@ func powellBadlyScaledCGAnalyticModelMinimizer(a, b *powellBadlyScaledCGAnalytic
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, powellBadlyScaledCGAnalyticFinite(t)
-}
-
-// powellBadlyScaledCGAnalyticSquareRoot returns √v.
-func powellBadlyScaledCGAnalyticSquareRoot(v float64) float64 {
-	return math.Sqrt(v)
 }
 
 // powellBadlyScaledCGAnalyticClampBetween returns v limited to the interval with ends a and b, in

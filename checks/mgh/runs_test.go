@@ -8,720 +8,720 @@ var runs = map[string]func(x0 []float64) outcome{
 		var x [2]float64
 		copy(x[:], x0)
 		r := RosenbrockBFGSAnalytic(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"RosenbrockBFGSCentral": func(x0 []float64) outcome {
 		var x [2]float64
 		copy(x[:], x0)
 		r := RosenbrockBFGSCentral(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"RosenbrockLBFGSAnalytic": func(x0 []float64) outcome {
 		var x [2]float64
 		copy(x[:], x0)
 		r := RosenbrockLBFGSAnalytic(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"RosenbrockLBFGSCentral": func(x0 []float64) outcome {
 		var x [2]float64
 		copy(x[:], x0)
 		r := RosenbrockLBFGSCentral(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"RosenbrockCGAnalytic": func(x0 []float64) outcome {
 		var x [2]float64
 		copy(x[:], x0)
 		r := RosenbrockCGAnalytic(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"RosenbrockCGCentral": func(x0 []float64) outcome {
 		var x [2]float64
 		copy(x[:], x0)
 		r := RosenbrockCGCentral(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"PowellBadlyScaledBFGSAnalytic": func(x0 []float64) outcome {
 		var x [2]float64
 		copy(x[:], x0)
 		r := PowellBadlyScaledBFGSAnalytic(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"PowellBadlyScaledBFGSCentral": func(x0 []float64) outcome {
 		var x [2]float64
 		copy(x[:], x0)
 		r := PowellBadlyScaledBFGSCentral(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"PowellBadlyScaledLBFGSAnalytic": func(x0 []float64) outcome {
 		var x [2]float64
 		copy(x[:], x0)
 		r := PowellBadlyScaledLBFGSAnalytic(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"PowellBadlyScaledLBFGSCentral": func(x0 []float64) outcome {
 		var x [2]float64
 		copy(x[:], x0)
 		r := PowellBadlyScaledLBFGSCentral(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"PowellBadlyScaledCGAnalytic": func(x0 []float64) outcome {
 		var x [2]float64
 		copy(x[:], x0)
 		r := PowellBadlyScaledCGAnalytic(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"PowellBadlyScaledCGCentral": func(x0 []float64) outcome {
 		var x [2]float64
 		copy(x[:], x0)
 		r := PowellBadlyScaledCGCentral(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"BrownBadlyScaledBFGSAnalytic": func(x0 []float64) outcome {
 		var x [2]float64
 		copy(x[:], x0)
 		r := BrownBadlyScaledBFGSAnalytic(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"BrownBadlyScaledBFGSCentral": func(x0 []float64) outcome {
 		var x [2]float64
 		copy(x[:], x0)
 		r := BrownBadlyScaledBFGSCentral(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"BrownBadlyScaledLBFGSAnalytic": func(x0 []float64) outcome {
 		var x [2]float64
 		copy(x[:], x0)
 		r := BrownBadlyScaledLBFGSAnalytic(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"BrownBadlyScaledLBFGSCentral": func(x0 []float64) outcome {
 		var x [2]float64
 		copy(x[:], x0)
 		r := BrownBadlyScaledLBFGSCentral(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"BrownBadlyScaledCGAnalytic": func(x0 []float64) outcome {
 		var x [2]float64
 		copy(x[:], x0)
 		r := BrownBadlyScaledCGAnalytic(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"BrownBadlyScaledCGCentral": func(x0 []float64) outcome {
 		var x [2]float64
 		copy(x[:], x0)
 		r := BrownBadlyScaledCGCentral(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"BealeBFGSAnalytic": func(x0 []float64) outcome {
 		var x [2]float64
 		copy(x[:], x0)
 		r := BealeBFGSAnalytic(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"BealeBFGSCentral": func(x0 []float64) outcome {
 		var x [2]float64
 		copy(x[:], x0)
 		r := BealeBFGSCentral(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"BealeLBFGSAnalytic": func(x0 []float64) outcome {
 		var x [2]float64
 		copy(x[:], x0)
 		r := BealeLBFGSAnalytic(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"BealeLBFGSCentral": func(x0 []float64) outcome {
 		var x [2]float64
 		copy(x[:], x0)
 		r := BealeLBFGSCentral(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"BealeCGAnalytic": func(x0 []float64) outcome {
 		var x [2]float64
 		copy(x[:], x0)
 		r := BealeCGAnalytic(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"BealeCGCentral": func(x0 []float64) outcome {
 		var x [2]float64
 		copy(x[:], x0)
 		r := BealeCGCentral(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"HelicalValleyBFGSAnalytic": func(x0 []float64) outcome {
 		var x [3]float64
 		copy(x[:], x0)
 		r := HelicalValleyBFGSAnalytic(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"HelicalValleyBFGSCentral": func(x0 []float64) outcome {
 		var x [3]float64
 		copy(x[:], x0)
 		r := HelicalValleyBFGSCentral(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"HelicalValleyLBFGSAnalytic": func(x0 []float64) outcome {
 		var x [3]float64
 		copy(x[:], x0)
 		r := HelicalValleyLBFGSAnalytic(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"HelicalValleyLBFGSCentral": func(x0 []float64) outcome {
 		var x [3]float64
 		copy(x[:], x0)
 		r := HelicalValleyLBFGSCentral(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"HelicalValleyCGAnalytic": func(x0 []float64) outcome {
 		var x [3]float64
 		copy(x[:], x0)
 		r := HelicalValleyCGAnalytic(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"HelicalValleyCGCentral": func(x0 []float64) outcome {
 		var x [3]float64
 		copy(x[:], x0)
 		r := HelicalValleyCGCentral(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"GaussianBFGSAnalytic": func(x0 []float64) outcome {
 		var x [3]float64
 		copy(x[:], x0)
 		r := GaussianBFGSAnalytic(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"GaussianBFGSCentral": func(x0 []float64) outcome {
 		var x [3]float64
 		copy(x[:], x0)
 		r := GaussianBFGSCentral(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"GaussianLBFGSAnalytic": func(x0 []float64) outcome {
 		var x [3]float64
 		copy(x[:], x0)
 		r := GaussianLBFGSAnalytic(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"GaussianLBFGSCentral": func(x0 []float64) outcome {
 		var x [3]float64
 		copy(x[:], x0)
 		r := GaussianLBFGSCentral(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"GaussianCGAnalytic": func(x0 []float64) outcome {
 		var x [3]float64
 		copy(x[:], x0)
 		r := GaussianCGAnalytic(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"GaussianCGCentral": func(x0 []float64) outcome {
 		var x [3]float64
 		copy(x[:], x0)
 		r := GaussianCGCentral(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"GulfRDBFGSAnalytic": func(x0 []float64) outcome {
 		var x [3]float64
 		copy(x[:], x0)
 		r := GulfRDBFGSAnalytic(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"GulfRDBFGSCentral": func(x0 []float64) outcome {
 		var x [3]float64
 		copy(x[:], x0)
 		r := GulfRDBFGSCentral(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"GulfRDLBFGSAnalytic": func(x0 []float64) outcome {
 		var x [3]float64
 		copy(x[:], x0)
 		r := GulfRDLBFGSAnalytic(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"GulfRDLBFGSCentral": func(x0 []float64) outcome {
 		var x [3]float64
 		copy(x[:], x0)
 		r := GulfRDLBFGSCentral(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"GulfRDCGAnalytic": func(x0 []float64) outcome {
 		var x [3]float64
 		copy(x[:], x0)
 		r := GulfRDCGAnalytic(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"GulfRDCGCentral": func(x0 []float64) outcome {
 		var x [3]float64
 		copy(x[:], x0)
 		r := GulfRDCGCentral(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"Box3DBFGSAnalytic": func(x0 []float64) outcome {
 		var x [3]float64
 		copy(x[:], x0)
 		r := Box3DBFGSAnalytic(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"Box3DBFGSCentral": func(x0 []float64) outcome {
 		var x [3]float64
 		copy(x[:], x0)
 		r := Box3DBFGSCentral(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"Box3DLBFGSAnalytic": func(x0 []float64) outcome {
 		var x [3]float64
 		copy(x[:], x0)
 		r := Box3DLBFGSAnalytic(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"Box3DLBFGSCentral": func(x0 []float64) outcome {
 		var x [3]float64
 		copy(x[:], x0)
 		r := Box3DLBFGSCentral(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"Box3DCGAnalytic": func(x0 []float64) outcome {
 		var x [3]float64
 		copy(x[:], x0)
 		r := Box3DCGAnalytic(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"Box3DCGCentral": func(x0 []float64) outcome {
 		var x [3]float64
 		copy(x[:], x0)
 		r := Box3DCGCentral(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"PowellSingularBFGSAnalytic": func(x0 []float64) outcome {
 		var x [4]float64
 		copy(x[:], x0)
 		r := PowellSingularBFGSAnalytic(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"PowellSingularBFGSCentral": func(x0 []float64) outcome {
 		var x [4]float64
 		copy(x[:], x0)
 		r := PowellSingularBFGSCentral(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"PowellSingularLBFGSAnalytic": func(x0 []float64) outcome {
 		var x [4]float64
 		copy(x[:], x0)
 		r := PowellSingularLBFGSAnalytic(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"PowellSingularLBFGSCentral": func(x0 []float64) outcome {
 		var x [4]float64
 		copy(x[:], x0)
 		r := PowellSingularLBFGSCentral(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"PowellSingularCGAnalytic": func(x0 []float64) outcome {
 		var x [4]float64
 		copy(x[:], x0)
 		r := PowellSingularCGAnalytic(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"PowellSingularCGCentral": func(x0 []float64) outcome {
 		var x [4]float64
 		copy(x[:], x0)
 		r := PowellSingularCGCentral(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"WoodBFGSAnalytic": func(x0 []float64) outcome {
 		var x [4]float64
 		copy(x[:], x0)
 		r := WoodBFGSAnalytic(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"WoodBFGSCentral": func(x0 []float64) outcome {
 		var x [4]float64
 		copy(x[:], x0)
 		r := WoodBFGSCentral(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"WoodLBFGSAnalytic": func(x0 []float64) outcome {
 		var x [4]float64
 		copy(x[:], x0)
 		r := WoodLBFGSAnalytic(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"WoodLBFGSCentral": func(x0 []float64) outcome {
 		var x [4]float64
 		copy(x[:], x0)
 		r := WoodLBFGSCentral(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"WoodCGAnalytic": func(x0 []float64) outcome {
 		var x [4]float64
 		copy(x[:], x0)
 		r := WoodCGAnalytic(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"WoodCGCentral": func(x0 []float64) outcome {
 		var x [4]float64
 		copy(x[:], x0)
 		r := WoodCGCentral(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"BrownDennisBFGSAnalytic": func(x0 []float64) outcome {
 		var x [4]float64
 		copy(x[:], x0)
 		r := BrownDennisBFGSAnalytic(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"BrownDennisBFGSCentral": func(x0 []float64) outcome {
 		var x [4]float64
 		copy(x[:], x0)
 		r := BrownDennisBFGSCentral(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"BrownDennisLBFGSAnalytic": func(x0 []float64) outcome {
 		var x [4]float64
 		copy(x[:], x0)
 		r := BrownDennisLBFGSAnalytic(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"BrownDennisLBFGSCentral": func(x0 []float64) outcome {
 		var x [4]float64
 		copy(x[:], x0)
 		r := BrownDennisLBFGSCentral(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"BrownDennisCGAnalytic": func(x0 []float64) outcome {
 		var x [4]float64
 		copy(x[:], x0)
 		r := BrownDennisCGAnalytic(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"BrownDennisCGCentral": func(x0 []float64) outcome {
 		var x [4]float64
 		copy(x[:], x0)
 		r := BrownDennisCGCentral(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"BiggsEXP6BFGSAnalytic": func(x0 []float64) outcome {
 		var x [6]float64
 		copy(x[:], x0)
 		r := BiggsEXP6BFGSAnalytic(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"BiggsEXP6BFGSCentral": func(x0 []float64) outcome {
 		var x [6]float64
 		copy(x[:], x0)
 		r := BiggsEXP6BFGSCentral(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"BiggsEXP6LBFGSAnalytic": func(x0 []float64) outcome {
 		var x [6]float64
 		copy(x[:], x0)
 		r := BiggsEXP6LBFGSAnalytic(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"BiggsEXP6LBFGSCentral": func(x0 []float64) outcome {
 		var x [6]float64
 		copy(x[:], x0)
 		r := BiggsEXP6LBFGSCentral(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"BiggsEXP6CGAnalytic": func(x0 []float64) outcome {
 		var x [6]float64
 		copy(x[:], x0)
 		r := BiggsEXP6CGAnalytic(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"BiggsEXP6CGCentral": func(x0 []float64) outcome {
 		var x [6]float64
 		copy(x[:], x0)
 		r := BiggsEXP6CGCentral(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"Watson6BFGSAnalytic": func(x0 []float64) outcome {
 		var x [6]float64
 		copy(x[:], x0)
 		r := Watson6BFGSAnalytic(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"Watson6BFGSCentral": func(x0 []float64) outcome {
 		var x [6]float64
 		copy(x[:], x0)
 		r := Watson6BFGSCentral(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"Watson6LBFGSAnalytic": func(x0 []float64) outcome {
 		var x [6]float64
 		copy(x[:], x0)
 		r := Watson6LBFGSAnalytic(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"Watson6LBFGSCentral": func(x0 []float64) outcome {
 		var x [6]float64
 		copy(x[:], x0)
 		r := Watson6LBFGSCentral(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"Watson6CGAnalytic": func(x0 []float64) outcome {
 		var x [6]float64
 		copy(x[:], x0)
 		r := Watson6CGAnalytic(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"Watson6CGCentral": func(x0 []float64) outcome {
 		var x [6]float64
 		copy(x[:], x0)
 		r := Watson6CGCentral(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"Watson9BFGSAnalytic": func(x0 []float64) outcome {
 		var x [9]float64
 		copy(x[:], x0)
 		r := Watson9BFGSAnalytic(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"Watson9BFGSCentral": func(x0 []float64) outcome {
 		var x [9]float64
 		copy(x[:], x0)
 		r := Watson9BFGSCentral(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"Watson9LBFGSAnalytic": func(x0 []float64) outcome {
 		var x [9]float64
 		copy(x[:], x0)
 		r := Watson9LBFGSAnalytic(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"Watson9LBFGSCentral": func(x0 []float64) outcome {
 		var x [9]float64
 		copy(x[:], x0)
 		r := Watson9LBFGSCentral(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"Watson9CGAnalytic": func(x0 []float64) outcome {
 		var x [9]float64
 		copy(x[:], x0)
 		r := Watson9CGAnalytic(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"Watson9CGCentral": func(x0 []float64) outcome {
 		var x [9]float64
 		copy(x[:], x0)
 		r := Watson9CGCentral(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"PenaltyI4BFGSAnalytic": func(x0 []float64) outcome {
 		var x [4]float64
 		copy(x[:], x0)
 		r := PenaltyI4BFGSAnalytic(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"PenaltyI4BFGSCentral": func(x0 []float64) outcome {
 		var x [4]float64
 		copy(x[:], x0)
 		r := PenaltyI4BFGSCentral(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"PenaltyI4LBFGSAnalytic": func(x0 []float64) outcome {
 		var x [4]float64
 		copy(x[:], x0)
 		r := PenaltyI4LBFGSAnalytic(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"PenaltyI4LBFGSCentral": func(x0 []float64) outcome {
 		var x [4]float64
 		copy(x[:], x0)
 		r := PenaltyI4LBFGSCentral(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"PenaltyI4CGAnalytic": func(x0 []float64) outcome {
 		var x [4]float64
 		copy(x[:], x0)
 		r := PenaltyI4CGAnalytic(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"PenaltyI4CGCentral": func(x0 []float64) outcome {
 		var x [4]float64
 		copy(x[:], x0)
 		r := PenaltyI4CGCentral(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"PenaltyI10BFGSAnalytic": func(x0 []float64) outcome {
 		var x [10]float64
 		copy(x[:], x0)
 		r := PenaltyI10BFGSAnalytic(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"PenaltyI10BFGSCentral": func(x0 []float64) outcome {
 		var x [10]float64
 		copy(x[:], x0)
 		r := PenaltyI10BFGSCentral(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"PenaltyI10LBFGSAnalytic": func(x0 []float64) outcome {
 		var x [10]float64
 		copy(x[:], x0)
 		r := PenaltyI10LBFGSAnalytic(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"PenaltyI10LBFGSCentral": func(x0 []float64) outcome {
 		var x [10]float64
 		copy(x[:], x0)
 		r := PenaltyI10LBFGSCentral(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"PenaltyI10CGAnalytic": func(x0 []float64) outcome {
 		var x [10]float64
 		copy(x[:], x0)
 		r := PenaltyI10CGAnalytic(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"PenaltyI10CGCentral": func(x0 []float64) outcome {
 		var x [10]float64
 		copy(x[:], x0)
 		r := PenaltyI10CGCentral(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"PenaltyII4BFGSAnalytic": func(x0 []float64) outcome {
 		var x [4]float64
 		copy(x[:], x0)
 		r := PenaltyII4BFGSAnalytic(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"PenaltyII4BFGSCentral": func(x0 []float64) outcome {
 		var x [4]float64
 		copy(x[:], x0)
 		r := PenaltyII4BFGSCentral(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"PenaltyII4LBFGSAnalytic": func(x0 []float64) outcome {
 		var x [4]float64
 		copy(x[:], x0)
 		r := PenaltyII4LBFGSAnalytic(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"PenaltyII4LBFGSCentral": func(x0 []float64) outcome {
 		var x [4]float64
 		copy(x[:], x0)
 		r := PenaltyII4LBFGSCentral(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"PenaltyII4CGAnalytic": func(x0 []float64) outcome {
 		var x [4]float64
 		copy(x[:], x0)
 		r := PenaltyII4CGAnalytic(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"PenaltyII4CGCentral": func(x0 []float64) outcome {
 		var x [4]float64
 		copy(x[:], x0)
 		r := PenaltyII4CGCentral(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"PenaltyII10BFGSAnalytic": func(x0 []float64) outcome {
 		var x [10]float64
 		copy(x[:], x0)
 		r := PenaltyII10BFGSAnalytic(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"PenaltyII10BFGSCentral": func(x0 []float64) outcome {
 		var x [10]float64
 		copy(x[:], x0)
 		r := PenaltyII10BFGSCentral(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"PenaltyII10LBFGSAnalytic": func(x0 []float64) outcome {
 		var x [10]float64
 		copy(x[:], x0)
 		r := PenaltyII10LBFGSAnalytic(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"PenaltyII10LBFGSCentral": func(x0 []float64) outcome {
 		var x [10]float64
 		copy(x[:], x0)
 		r := PenaltyII10LBFGSCentral(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"PenaltyII10CGAnalytic": func(x0 []float64) outcome {
 		var x [10]float64
 		copy(x[:], x0)
 		r := PenaltyII10CGAnalytic(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"PenaltyII10CGCentral": func(x0 []float64) outcome {
 		var x [10]float64
 		copy(x[:], x0)
 		r := PenaltyII10CGCentral(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"VariablyDimensioned10BFGSAnalytic": func(x0 []float64) outcome {
 		var x [10]float64
 		copy(x[:], x0)
 		r := VariablyDimensioned10BFGSAnalytic(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"VariablyDimensioned10BFGSCentral": func(x0 []float64) outcome {
 		var x [10]float64
 		copy(x[:], x0)
 		r := VariablyDimensioned10BFGSCentral(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"VariablyDimensioned10LBFGSAnalytic": func(x0 []float64) outcome {
 		var x [10]float64
 		copy(x[:], x0)
 		r := VariablyDimensioned10LBFGSAnalytic(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"VariablyDimensioned10LBFGSCentral": func(x0 []float64) outcome {
 		var x [10]float64
 		copy(x[:], x0)
 		r := VariablyDimensioned10LBFGSCentral(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"VariablyDimensioned10CGAnalytic": func(x0 []float64) outcome {
 		var x [10]float64
 		copy(x[:], x0)
 		r := VariablyDimensioned10CGAnalytic(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"VariablyDimensioned10CGCentral": func(x0 []float64) outcome {
 		var x [10]float64
 		copy(x[:], x0)
 		r := VariablyDimensioned10CGCentral(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"Trigonometric10BFGSAnalytic": func(x0 []float64) outcome {
 		var x [10]float64
 		copy(x[:], x0)
 		r := Trigonometric10BFGSAnalytic(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"Trigonometric10BFGSCentral": func(x0 []float64) outcome {
 		var x [10]float64
 		copy(x[:], x0)
 		r := Trigonometric10BFGSCentral(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"Trigonometric10LBFGSAnalytic": func(x0 []float64) outcome {
 		var x [10]float64
 		copy(x[:], x0)
 		r := Trigonometric10LBFGSAnalytic(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"Trigonometric10LBFGSCentral": func(x0 []float64) outcome {
 		var x [10]float64
 		copy(x[:], x0)
 		r := Trigonometric10LBFGSCentral(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"Trigonometric10CGAnalytic": func(x0 []float64) outcome {
 		var x [10]float64
 		copy(x[:], x0)
 		r := Trigonometric10CGAnalytic(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 	"Trigonometric10CGCentral": func(x0 []float64) outcome {
 		var x [10]float64
 		copy(x[:], x0)
 		r := Trigonometric10CGCentral(x)
-		return outcome{r.X[:], r.F, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
+		return outcome{r.X[:], r.F, r.Gradient, r.GradientLimit, r.Iterations, r.Evaluations, r.Status.String(), r.Status.Converged()}
 	},
 }

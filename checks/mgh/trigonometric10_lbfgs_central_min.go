@@ -8,10 +8,10 @@ import "math"
 type Trigonometric10LBFGSCentralStatus uint8
 
 const (
-	// Trigonometric10LBFGSCentralGradientSmall: the largest gradient component fell to the gradient limit: converged.
+	// Trigonometric10LBFGSCentralGradientSmall: the gradient test holds at X: its measure, with the differences' error bound when they are used, is at most the gradient limit: converged.
 	Trigonometric10LBFGSCentralGradientSmall Trigonometric10LBFGSCentralStatus = iota + 1
-	// Trigonometric10LBFGSCentralStepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f: converged.
-	Trigonometric10LBFGSCentralStepTiny
+	// Trigonometric10LBFGSCentralStalled: the step test ended the run, or no step longer than the step limit decreased f, while the gradient test still fails: X is as far as the run could get, not a verified minimizer.
+	Trigonometric10LBFGSCentralStalled
 	// Trigonometric10LBFGSCentralOutOfIterations: the iteration limit came first.
 	Trigonometric10LBFGSCentralOutOfIterations
 	// Trigonometric10LBFGSCentralOutOfEvaluations: the next objective call would have exceeded the evaluation cap.
@@ -22,8 +22,10 @@ const (
 	Trigonometric10LBFGSCentralNonFiniteStart
 	// Trigonometric10LBFGSCentralNonFiniteGradient: a gradient component became NaN or ±Inf.
 	Trigonometric10LBFGSCentralNonFiniteGradient
-	// Trigonometric10LBFGSCentralNoDecrease: no step longer than the step limit decreased f, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test).
+	// Trigonometric10LBFGSCentralNoDecrease: the line search found no acceptable step, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test).
 	Trigonometric10LBFGSCentralNoDecrease
+	// Trigonometric10LBFGSCentralDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
+	Trigonometric10LBFGSCentralDiverged
 )
 
 // String describes the status in a few words.
@@ -31,8 +33,8 @@ func (s Trigonometric10LBFGSCentralStatus) String() string {
 	switch s {
 	case Trigonometric10LBFGSCentralGradientSmall:
 		return "gradient small"
-	case Trigonometric10LBFGSCentralStepTiny:
-		return "step tiny"
+	case Trigonometric10LBFGSCentralStalled:
+		return "stalled"
 	case Trigonometric10LBFGSCentralOutOfIterations:
 		return "out of iterations"
 	case Trigonometric10LBFGSCentralOutOfEvaluations:
@@ -45,28 +47,32 @@ func (s Trigonometric10LBFGSCentralStatus) String() string {
 		return "non-finite gradient"
 	case Trigonometric10LBFGSCentralNoDecrease:
 		return "no decrease"
+	case Trigonometric10LBFGSCentralDiverged:
+		return "diverged"
 	default:
 		return "unknown status"
 	}
 }
 
-// Converged reports whether a convergence test, on the gradient or on the step, ended the run; limits, line-search failure and non-finite values are not convergence.
+// Converged reports whether the gradient test holds at X (Gradient ≤ GradientLimit in the result): only then is X a verified stationary point; a stall, the limits, line-search failure and non-finite values are not convergence.
 func (s Trigonometric10LBFGSCentralStatus) Converged() bool {
-	return s == Trigonometric10LBFGSCentralGradientSmall || s == Trigonometric10LBFGSCentralStepTiny
+	return s == Trigonometric10LBFGSCentralGradientSmall
 }
 
 // Trigonometric10LBFGSCentralResult is where Trigonometric10LBFGSCentral stopped and why.
 type Trigonometric10LBFGSCentralResult struct {
-	X           [10]float64                       // the last accepted point, the best one found
-	F           float64                           // the objective at X
-	Iterations  int                               // accepted steps
-	Evaluations int                               // objective calls, finite differences included
-	Status      Trigonometric10LBFGSCentralStatus // why the run stopped; check Status.Converged()
+	X             [10]float64                       // where the gradient test held, when converged; else the lowest point seen
+	F             float64                           // the objective at X
+	Gradient      float64                           // the gradient test's measure at X, the differences' error bound included; NaN when the run ended before the gradient at X was known
+	GradientLimit float64                           // the limit Gradient was held to: Limits.Gradient, raised with differences to ten times the measure of their error bound; converged runs have Gradient ≤ GradientLimit
+	Iterations    int                               // accepted steps
+	Evaluations   int                               // objective calls, finite differences included
+	Status        Trigonometric10LBFGSCentralStatus // why the run stopped; check Status.Converged()
 }
 
 // Trigonometric10LBFGSCentralLimits are the stop limits of one run. Pass them to Trigonometric10LBFGSCentralWithLimits to change them at run time; Trigonometric10LBFGSCentralDefaultLimits returns the spec's.
 type Trigonometric10LBFGSCentralLimits struct {
-	Gradient    float64 // stop when the largest |∂f/∂xᵢ| is at most this
+	Gradient    float64 // stop, converged, when the gradient test's measure is at most this (with differences, at most ten times the measure of their error bound where that is larger)
 	Step        float64 // stop when every |Δxᵢ| is at most this·(|xᵢ| + 1)
 	Iterations  int     // most accepted steps
 	Evaluations int     // hard cap on objective calls, finite differences included; never exceeded
@@ -86,11 +92,12 @@ func Trigonometric10LBFGSCentralDefaultLimits() Trigonometric10LBFGSCentralLimit
 //
 // Direction lbfgs: limited-memory BFGS: the last `memory` pairs, two-loop recursion (2·memory·dim numbers).
 // Step rule wolfe: bracket and zoom until sufficient decrease and the curvature condition hold.
-// Derivative central: central differences: 2·dim objective calls per gradient, error O(u^(2/3)).
+// Derivative central: central differences: 2·dim objective calls per gradient, intervals from the objective's curvature, error O(u^(2/3)).
+// Gradient test relative: max over i of (|∂f/∂xᵢ| + eᵢ)·max(|xᵢ|, 1)/max(|f(x)|, 1), eᵢ the error bound of differences (0 for an analytic gradient).
 // Constants: initial 1.0, c1 0.0001, c2 0.9, at most 48 trials per line search, memory 5 pairs.
-// Default stop: largest gradient component ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
+// Default stop: gradient measure ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
 //
-// Worst case: 200000 objective calls, 20 of them per gradient (the evaluation cap; the iteration limit alone would allow 5040021). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
+// Worst case: 200000 objective calls, 20 of them per gradient and 40 per choice of the difference intervals (at the start and before each convergence is confirmed) (the evaluation cap; the iteration limit alone would allow 5441149). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
 func Trigonometric10LBFGSCentral(x0 [10]float64) Trigonometric10LBFGSCentralResult {
 	return Trigonometric10LBFGSCentralWithLimits(x0, Trigonometric10LBFGSCentralDefaultLimits())
@@ -100,11 +107,13 @@ func Trigonometric10LBFGSCentral(x0 [10]float64) Trigonometric10LBFGSCentralResu
 func Trigonometric10LBFGSCentralWithLimits(x0 [10]float64, limits Trigonometric10LBFGSCentralLimits) Trigonometric10LBFGSCentralResult {
 	out := trigonometric10LBFGSCentralMinimize(x0, limits)
 	return Trigonometric10LBFGSCentralResult{
-		Evaluations: out.evaluations,
-		F:           out.f,
-		Iterations:  out.iterations,
-		Status:      out.status,
-		X:           out.x,
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
 	}
 }
 
@@ -118,27 +127,40 @@ const (
 	trigonometric10LBFGSCentralDerivativeCost = 20                     // objective calls per gradient
 	trigonometric10LBFGSCentralUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
 	trigonometric10LBFGSCentralLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
-	trigonometric10LBFGSCentralCentralScale   = 4.806217383937352e-06  // ∛u, central-difference step scale (Nocedal & Wright 2006, §8.1)
 )
 
 // trigonometric10LBFGSCentralMinimize runs the descent loop from x0 within lim:
 //
-//  1. stop when the largest gradient component is at most lim.Gradient;
+//  1. stop, converged, when the gradient measure (trigonometric10LBFGSCentralGradientMeasure, error
+//     bound of differences included) is at most the limit: lim.Gradient,
+//     or three times the measure of the differences' error bound when that is
+//     larger, so that the limit can be met (the floor the test can see);
+//     differences confirm it first (trigonometric10LBFGSCentralConfirmGradient);
 //  2. stop after lim.Iterations accepted steps;
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
-//  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged,
-//     unless f contradicts an analytic gradient: no decrease);
+//  4. search along d; stop when no trial is acceptable or only steps
+//     shorter than the step limit are left to try: stalled, or no
+//     decrease when f contradicts an analytic gradient (see trigonometric10LBFGSCentralRiseTrend);
 //  5. move, refresh the gradient, let the direction learn from the step;
-//  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
+//  6. stop, stalled, when every |Δx_i| is at most lim.Step·(|x_i| + 1) while
+//     the gradient test still fails. At a stall the run settles first
+//     (settle): the error bound gains the rounding floor of x, with
+//     differences confirmed, and the limit rises to ten times the larger
+//     of lim.Gradient and the bound's measure; a gradient within that is
+//     as small as this point can show, and the run is converged with that
+//     limit, which it reports.
 //
-// Before every objective call it checks that lim.Evaluations leaves room
-// for it, so the cap is never exceeded. A NaN or ±Inf at the start or in a
+// Only step 1 is convergence: the first-order test holds at X. Before
+// every objective call it checks that lim.Evaluations leaves room for it,
+// so the cap is never exceeded. A NaN or ±Inf at the start or in a
 // gradient ends the run with its own status; a non-finite trial value is
-// rejected by the line search like any failed trial.
+// rejected by the line search like any failed trial. X is the best point
+// seen unless the run converged, which it did at X. A fixed step whose
+// value overflows, or that raised f above f(x0) at eight steps in a row,
+// ends the run as diverged (common practice for a divergence test).
 func trigonometric10LBFGSCentralMinimize(x0 [10]float64, lim Trigonometric10LBFGSCentralLimits) trigonometric10LBFGSCentralOutcome {
-	out := trigonometric10LBFGSCentralOutcome{x: x0, status: Trigonometric10LBFGSCentralOutOfEvaluations}
+	out := trigonometric10LBFGSCentralOutcome{x: x0, status: Trigonometric10LBFGSCentralOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
@@ -149,11 +171,14 @@ func trigonometric10LBFGSCentralMinimize(x0 [10]float64, lim Trigonometric10LBFG
 		out.status = Trigonometric10LBFGSCentralNonFiniteStart
 		return out
 	}
-	if out.evaluations+trigonometric10LBFGSCentralDerivativeCost > lim.Evaluations {
+	var diffs trigonometric10LBFGSCentralDifferences
+	calls, ok := trigonometric10LBFGSCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
+	out.evaluations += calls
+	if !ok || out.evaluations+trigonometric10LBFGSCentralDerivativeCost > lim.Evaluations {
 		return out
 	}
-	var g [10]float64
-	trigonometric10LBFGSCentralDerivative(&x, fx, &g)
+	var g, e [10]float64
+	trigonometric10LBFGSCentralDerivative(&x, fx, &g, &diffs)
 	out.evaluations += trigonometric10LBFGSCentralDerivativeCost
 
 	if !trigonometric10LBFGSCentralFiniteVec(&g) {
@@ -164,21 +189,76 @@ func trigonometric10LBFGSCentralMinimize(x0 [10]float64, lim Trigonometric10LBFG
 	dir.reset()
 	var d, xt, gt, s, y [10]float64
 	t, slope := float64(trigonometric10LBFGSCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
+	best := out                                                             // the lowest point seen, for runs that end unconverged
+	start, rises := fx, 0                                                   // f(x0), and consecutive accepted steps that raised f above it
+	confirmed := false                                                      // whether g and e at x come from trigonometric10LBFGSCentralConfirmGradient
+	stalled := false                                                        // whether the run can make no more progress at x
+	retried := -1                                                           // the iteration whose stall was retried with recalibrated differences
 	for {
-		if trigonometric10LBFGSCentralMaxAbs(&g) <= lim.Gradient {
+		if !confirmed {
+			trigonometric10LBFGSCentralGradientError(&x, fx, &g, &e, &diffs)
+		}
+		measure, floor := trigonometric10LBFGSCentralGradientMeasure(&g, &e, &x, fx)
+		out.gradient, out.gradientLimit = measure, trigonometric10LBFGSCentralLarger(lim.Gradient, 3*floor)
+		if stalled {
+			// No step can make progress here: the gradient is as small as
+			// this point shows it, within ten times the limit or the floor.
+			out.gradientLimit = 10 * trigonometric10LBFGSCentralLarger(lim.Gradient, floor)
+		}
+		if out.f <= best.f {
+			best = out
+		}
+		if measure <= out.gradientLimit && (trigonometric10LBFGSCentralDerivativeCost == 0 || confirmed) {
 			out.status = Trigonometric10LBFGSCentralGradientSmall
 			return out
 		}
-		if out.iterations > 0 {
+		if measure <= out.gradientLimit {
+			// Differences pass the test: confirm it with intervals chosen
+			// here and an error measured rather than modelled.
+			calls, ok := trigonometric10LBFGSCentralConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(Trigonometric10LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !trigonometric10LBFGSCentralFiniteVec(&g) {
+				return best.ending(Trigonometric10LBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			confirmed = true
+			continue
+		}
+		if stalled {
+			// Settled and still above the limit: stalled, unless
+			// differences, whose intervals were just chosen here, can
+			// search once more with the better gradient.
+			if trigonometric10LBFGSCentralDerivativeCost == 0 {
+				return best.ending(Trigonometric10LBFGSCentralStalled, out.iterations, out.evaluations)
+			}
+			stalled, retried = false, out.iterations
+		}
+		// At a stall, settle first: the run is converged if the gradient
+		// is zero to the rounding of x (and, with differences, to their
+		// accuracy, confirmed); see settle.
+		canSettle := retried != out.iterations
+		if out.iterations > 0 && canSettle {
 			if trigonometric10LBFGSCentralStepWithin(&s, &x, lim.Step) {
-				out.status = Trigonometric10LBFGSCentralStepTiny
-				return out
+				calls, ok := trigonometric10LBFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+				out.evaluations += calls
+				if !ok {
+					return best.ending(Trigonometric10LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+				}
+				if !trigonometric10LBFGSCentralFiniteVec(&g) {
+					return best.ending(Trigonometric10LBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
+				}
+				stalled, confirmed = true, true
+				continue
+			}
+			if rises >= 8 {
+				return best.ending(Trigonometric10LBFGSCentralDiverged, out.iterations, out.evaluations)
 			}
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
-			out.status = Trigonometric10LBFGSCentralOutOfIterations
-			return out
+			return best.ending(Trigonometric10LBFGSCentralOutOfIterations, out.iterations, out.evaluations)
 		}
 		dir.compute(&g, &d)
 		now := trigonometric10LBFGSCentralDot(&g, &d)
@@ -192,50 +272,70 @@ func trigonometric10LBFGSCentralMinimize(x0 [10]float64, lim Trigonometric10LBFG
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := trigonometric10LBFGSCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := trigonometric10LBFGSCentralLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt)
+		found := trigonometric10LBFGSCentralLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case trigonometric10LBFGSCentralSearchOutOfBudget:
-			return out
-		case trigonometric10LBFGSCentralSearchExhausted:
-			out.status = Trigonometric10LBFGSCentralNoAcceptableStep
-			return out
-		case trigonometric10LBFGSCentralSearchTiny:
-			// Converged to the step limit: no step the step test would
-			// reject decreases f. Not so when an analytic gradient is
-			// contradicted by f rising in proportion to the step (see
-			// trigonometric10LBFGSCentralRiseTrend, which never reports that for differences).
-			out.status = Trigonometric10LBFGSCentralStepTiny
-			if found.rising {
-				out.status = Trigonometric10LBFGSCentralNoDecrease
+			return best.ending(Trigonometric10LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+		case trigonometric10LBFGSCentralSearchDiverged:
+			return best.ending(Trigonometric10LBFGSCentralDiverged, out.iterations, out.evaluations)
+		case trigonometric10LBFGSCentralSearchExhausted, trigonometric10LBFGSCentralSearchTiny:
+			// No acceptable step. When an analytic gradient predicted a
+			// fall that f contradicted in proportion to the step, the
+			// gradient is probably wrong (see trigonometric10LBFGSCentralRiseTrend, which never
+			// reports that for differences); otherwise the search stalled
+			// below the step limit, or ran out of trials.
+			end := Trigonometric10LBFGSCentralNoAcceptableStep
+			switch {
+			case found.rising:
+				end = Trigonometric10LBFGSCentralNoDecrease
+			case found.end == trigonometric10LBFGSCentralSearchTiny && canSettle:
+				calls, ok := trigonometric10LBFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+				out.evaluations += calls
+				if !ok {
+					return best.ending(Trigonometric10LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+				}
+				if !trigonometric10LBFGSCentralFiniteVec(&g) {
+					return best.ending(Trigonometric10LBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
+				}
+				stalled, confirmed = true, true
+				continue
+			case found.end == trigonometric10LBFGSCentralSearchTiny:
+				end = Trigonometric10LBFGSCentralStalled
 			}
-			return out
+			return best.ending(end, out.iterations, out.evaluations)
 		}
 		if !trigonometric10LBFGSCentralFiniteVec(&xt) {
-			out.status = Trigonometric10LBFGSCentralNoAcceptableStep // the accepted trial overflowed x
-			return out
+			return best.ending(Trigonometric10LBFGSCentralNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
 		}
 		if !found.gradient {
 			if out.evaluations+trigonometric10LBFGSCentralDerivativeCost > lim.Evaluations {
-				if found.value < fx { // keep a better point even without its gradient
-					out.x, out.f = xt, found.value
+				if found.value < best.f { // keep a better point even without its gradient
+					best.x, best.f, best.gradient = xt, found.value, math.NaN()
 					out.iterations++
 				}
-				return out
+				return best.ending(Trigonometric10LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			trigonometric10LBFGSCentralDerivative(&xt, found.value, &gt)
+			trigonometric10LBFGSCentralDerivative(&xt, found.value, &gt, &diffs)
 			out.evaluations += trigonometric10LBFGSCentralDerivativeCost
 		}
 		out.iterations++
 		trigonometric10LBFGSCentralDifference(&s, &xt, &x)
 		trigonometric10LBFGSCentralDifference(&y, &gt, &g)
-		x, fx, g = xt, found.value, gt
-		out.x, out.f = x, fx
+		if found.value > fx && found.value > start {
+			rises++
+		} else {
+			rises = 0
+		}
+		x, fx, g, confirmed = xt, found.value, gt, false
+		out.x, out.f, out.gradient = x, fx, math.NaN()
 		t, slope = found.step, now
 
 		if !trigonometric10LBFGSCentralFiniteVec(&g) {
-			out.status = Trigonometric10LBFGSCentralNonFiniteGradient
-			return out
+			if out.f < best.f {
+				best = out
+			}
+			return best.ending(Trigonometric10LBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
 		}
 	}
 }
@@ -243,11 +343,19 @@ func trigonometric10LBFGSCentralMinimize(x0 [10]float64, lim Trigonometric10LBFG
 // trigonometric10LBFGSCentralOutcome is the kernel's report; the generated entry point copies it into
 // the spec's result type.
 type trigonometric10LBFGSCentralOutcome struct {
-	x           [10]float64
-	f           float64
-	iterations  int
-	evaluations int
-	status      Trigonometric10LBFGSCentralStatus
+	x             [10]float64
+	f             float64
+	gradient      float64 // the stop test's measure at x, error bound included; NaN when not known
+	gradientLimit float64 // the limit that measure was held to
+	iterations    int
+	evaluations   int
+	status        Trigonometric10LBFGSCentralStatus
+}
+
+// ending is the best point seen, reported with the run's end and counts.
+func (o trigonometric10LBFGSCentralOutcome) ending(end Trigonometric10LBFGSCentralStatus, iterations, evaluations int) trigonometric10LBFGSCentralOutcome {
+	o.status, o.iterations, o.evaluations = end, iterations, evaluations
+	return o
 }
 
 // trigonometric10LBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
@@ -272,26 +380,81 @@ func trigonometric10LBFGSCentralFiniteVec(x *[10]float64) bool {
 	return true
 }
 
-// trigonometric10LBFGSCentralDerivative approximates the gradient by central differences,
+// trigonometric10LBFGSCentralDifferences is what the difference gradients learn from the objective
+// at the start: for each coordinate i, the interval as a multiple of
+// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
+// forward differences, |f‴| for central ones). The analytic gradient
+// leaves it unused.
+type trigonometric10LBFGSCentralDifferences struct {
+	ratio     [10]float64
+	curvature [10]float64
+	second    [10]float64 // |f″| along e_i, for the rounding floor of a stall (see trigonometric10LBFGSCentralRoundingFloor)
+}
+
+// trigonometric10LBFGSCentralCalibrate chooses each central-difference interval from the
+// third derivative along e_i, estimated at x with four probes at ±h̄ and
+// ±2h̄, h̄ = u^(1/4)·s, s = max(1, |x_i|):
 //
-//	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),  h_i = ∛u · max(1, |x_i|),
+//	f‴ ≈ (f(x + 2h̄eᵢ) − 2f(x + h̄eᵢ) + 2f(x − h̄eᵢ) − f(x − 2h̄eᵢ)) / (2h̄³),
+//	h_i  = ∛(3ε_A / |f‴|)
 //
-// with error O(h²) (Nocedal & Wright 2006, eq. 8.7 and §8.1). It costs
-// 2·dim objective calls; fx is not needed.
-func trigonometric10LBFGSCentralDerivative(x *[10]float64, fx float64, g *[10]float64) {
+// the interval that minimizes the truncation error h²|f‴|/6 plus the
+// rounding error ε_A/h of a central difference (Nocedal & Wright 2006,
+// §8.1, with the third-derivative estimate of the forward interval's
+// procedure of Gill, Murray, Saunders & Wright 1983 carried one order
+// up), with ε_A from trigonometric10LBFGSCentralNoiseLevel and the probes' slopes. An estimate below
+// its rounding noise 3ε_A/h̄³ is replaced by that noise, and h_i is kept
+// within [64u·s, h̄]. It costs four objective calls per unknown.
+func trigonometric10LBFGSCentralCalibrate(x *[10]float64, fx float64, diffs *trigonometric10LBFGSCentralDifferences, budget int) (int, bool) {
 	probe := *x
+	var slope [10]float64
+	scale := trigonometric10LBFGSCentralAbs(fx)
+	quarter := trigonometric10LBFGSCentralSquareRoot(trigonometric10LBFGSCentralSquareRoot(trigonometric10LBFGSCentralUnitRoundoff)) // u^(1/4)
 	for i := range probe {
+		if 4*(i+1) > budget {
+			return 4 * i, false
+		}
 		xi := probe[i]
-		h := trigonometric10LBFGSCentralCentralScale * trigonometric10LBFGSCentralLarger(1, trigonometric10LBFGSCentralAbs(xi)) // N&W §8.1: h = ∛u·max(1,|x_i|)
-		up := xi + h
-		down := xi - h
-		probe[i] = up
-		fUp := Trigonometric10(&probe)
-		probe[i] = down
-		fDown := Trigonometric10(&probe)
-		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+		bar := quarter * trigonometric10LBFGSCentralLarger(1, trigonometric10LBFGSCentralAbs(xi))
+		var f [4]float64
+		for k, m := range [4]float64{2, 1, -1, -2} {
+			probe[i], _ = trigonometric10LBFGSCentralProbeStep(xi, m*bar)
+			f[k] = Trigonometric10(&probe)
+			scale = trigonometric10LBFGSCentralLarger(scale, trigonometric10LBFGSCentralMagnitude(f[k]))
+		}
 		probe[i] = xi
+		if trigonometric10LBFGSCentralFinite(f[0]) && trigonometric10LBFGSCentralFinite(f[1]) && trigonometric10LBFGSCentralFinite(f[2]) && trigonometric10LBFGSCentralFinite(f[3]) {
+			diffs.curvature[i] = trigonometric10LBFGSCentralAbs(f[0]-2*f[1]+2*f[2]-f[3]) / (2 * bar * bar * bar)
+			diffs.second[i] = trigonometric10LBFGSCentralAbs(f[1]-2*fx+f[2]) / (bar * bar)
+			slope[i] = (f[1] - f[2]) / (2 * bar)
+		}
 	}
+	noise := trigonometric10LBFGSCentralNoiseLevel(x, scale, &slope)
+	for i := range probe {
+		s := trigonometric10LBFGSCentralLarger(1, trigonometric10LBFGSCentralAbs(probe[i]))
+		bar := quarter * s
+		third := trigonometric10LBFGSCentralLarger(diffs.curvature[i], 3*noise/(bar*bar*bar))
+		h := bar
+		if third > 0 {
+			h = trigonometric10LBFGSCentralCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+		}
+		diffs.ratio[i] = trigonometric10LBFGSCentralClampBetween(h, 64*trigonometric10LBFGSCentralUnitRoundoff*s, bar) / s
+		diffs.curvature[i] = third
+	}
+	return 4 * len(probe), true
+}
+
+// trigonometric10LBFGSCentralAbs returns |v|.
+func trigonometric10LBFGSCentralAbs(v float64) float64 {
+	if v < 0 {
+		return -v
+	}
+	return v
+}
+
+// trigonometric10LBFGSCentralSquareRoot returns √v.
+func trigonometric10LBFGSCentralSquareRoot(v float64) float64 {
+	return math.Sqrt(v)
 }
 
 // trigonometric10LBFGSCentralLarger returns the larger of a and b, or a NaN among them. The builtin
@@ -304,12 +467,81 @@ func trigonometric10LBFGSCentralLarger(a, b float64) float64 {
 	return b
 }
 
-// trigonometric10LBFGSCentralAbs returns |v|.
-func trigonometric10LBFGSCentralAbs(v float64) float64 {
-	if v < 0 {
-		return -v
+// trigonometric10LBFGSCentralProbeStep returns x_i moved by h, and the step actually representable.
+func trigonometric10LBFGSCentralProbeStep(xi, h float64) (float64, float64) {
+	moved := xi + h
+	return moved, moved - xi
+}
+
+// trigonometric10LBFGSCentralMagnitude is |v| for a finite v and 0 otherwise: a probe that fell
+// outside the objective's domain says nothing about its rounding.
+func trigonometric10LBFGSCentralMagnitude(v float64) float64 {
+	if !trigonometric10LBFGSCentralFinite(v) {
+		return 0
+	}
+	return trigonometric10LBFGSCentralAbs(v)
+}
+
+// trigonometric10LBFGSCentralNoiseLevel is the absolute error assumed in a computed value fx of the
+// objective at x, where its gradient is about g:
+//
+//	ε_A = 4u·(|fx| + Σᵢ |gᵢ·xᵢ|),
+//
+// a few roundings of the result plus the change that rounding each xᵢ by
+// a relative u makes in f, which is what an objective computed with
+// cancellation inside (y − x² in Rosenbrock's valley) shows near a zero
+// minimum, where u·|f| alone vanishes (the first-order error of
+// evaluating f at a rounded x; the factor 4 is common practice; Gill,
+// Murray, Saunders & Wright 1983 leave ε_A to the user).
+func trigonometric10LBFGSCentralNoiseLevel(x *[10]float64, fx float64, g *[10]float64) float64 {
+	sum := trigonometric10LBFGSCentralAbs(fx)
+	for i := range x {
+		sum += trigonometric10LBFGSCentralAbs(g[i] * x[i])
+	}
+	return 4 * trigonometric10LBFGSCentralUnitRoundoff * sum
+}
+
+// trigonometric10LBFGSCentralCubeRoot returns ∛v for v ≥ 0.
+func trigonometric10LBFGSCentralCubeRoot(v float64) float64 {
+	return math.Cbrt(v)
+}
+
+// trigonometric10LBFGSCentralClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func trigonometric10LBFGSCentralClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
 	}
 	return v
+}
+
+// trigonometric10LBFGSCentralDerivative approximates the gradient by central differences,
+//
+//	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),
+//
+// with the intervals trigonometric10LBFGSCentralCalibrate chose, h_i = ratio_i·max(1, |x_i|)
+// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls; fx is
+// not needed.
+func trigonometric10LBFGSCentralDerivative(x *[10]float64, fx float64, g *[10]float64, diffs *trigonometric10LBFGSCentralDifferences) {
+	probe := *x
+	for i := range probe {
+		xi := probe[i]
+		h := diffs.ratio[i] * trigonometric10LBFGSCentralLarger(1, trigonometric10LBFGSCentralAbs(xi))
+		up, _ := trigonometric10LBFGSCentralProbeStep(xi, h)
+		down, _ := trigonometric10LBFGSCentralProbeStep(xi, -h)
+		probe[i] = up
+		fUp := Trigonometric10(&probe)
+		probe[i] = down
+		fDown := Trigonometric10(&probe)
+		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+		probe[i] = xi
+	}
 }
 
 // trigonometric10LBFGSCentralDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
@@ -427,15 +659,67 @@ func trigonometric10LBFGSCentralCurvatureSafe(s, y *[10]float64) bool {
 	return sy > 0 && (sy/trigonometric10LBFGSCentralDot(s, s))*(sy/trigonometric10LBFGSCentralDot(y, y)) > trigonometric10LBFGSCentralUnitRoundoff
 }
 
-// trigonometric10LBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
-func trigonometric10LBFGSCentralMaxAbs(x *[10]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := trigonometric10LBFGSCentralAbs(x[i]); a > m || a != a {
-			m = a
-		}
+// trigonometric10LBFGSCentralGradientError bounds each central difference's error by twice its
+// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
+// in forwardError).
+func trigonometric10LBFGSCentralGradientError(x *[10]float64, fx float64, g, e *[10]float64, diffs *trigonometric10LBFGSCentralDifferences) {
+	noise := trigonometric10LBFGSCentralNoiseLevel(x, fx, g)
+	for i := range e {
+		h := diffs.ratio[i] * trigonometric10LBFGSCentralLarger(1, trigonometric10LBFGSCentralAbs(x[i]))
+		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
 	}
-	return m
+}
+
+// trigonometric10LBFGSCentralGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func trigonometric10LBFGSCentralGradientMeasure(g, e, x *[10]float64, fx float64) (measure, floor float64) {
+	scale := trigonometric10LBFGSCentralLarger(trigonometric10LBFGSCentralAbs(fx), 1)
+	for i := range g {
+		w := trigonometric10LBFGSCentralLarger(trigonometric10LBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = trigonometric10LBFGSCentralLarger(measure, (trigonometric10LBFGSCentralAbs(g[i])+e[i])*w)
+		floor = trigonometric10LBFGSCentralLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// trigonometric10LBFGSCentralConfirmGradient recomputes a difference gradient at x before the run is
+// called converged there: it chooses the intervals again from the
+// curvature at x (calibrate), computes g with them and with twice them,
+// and bounds each component's error by the model (trigonometric10LBFGSCentralGradientError) plus
+// three times the change the doubling made. That change measures what the
+// model can miss, truncation from curvature that varies and rounding
+// noise above 4u·|f|; as one sample of that noise it is tripled
+// (Richardson's idea of comparing two intervals; the factor is common
+// practice for a posteriori error estimates). It costs a calibration and two
+// gradients, and returns the calls spent and false when budget ran out
+// first.
+func trigonometric10LBFGSCentralConfirmGradient(x *[10]float64, fx float64, g, e *[10]float64, diffs *trigonometric10LBFGSCentralDifferences, budget int) (int, bool) {
+	calls, ok := trigonometric10LBFGSCentralCalibrate(x, fx, diffs, budget)
+	if !ok || calls+2*trigonometric10LBFGSCentralDerivativeCost > budget {
+		return calls, false
+	}
+	wide := *diffs
+	for i := range wide.ratio {
+		wide.ratio[i] *= 2
+	}
+	var doubled [10]float64
+	trigonometric10LBFGSCentralDerivative(x, fx, g, diffs)
+	trigonometric10LBFGSCentralDerivative(x, fx, &doubled, &wide)
+	trigonometric10LBFGSCentralGradientError(x, fx, g, e, diffs)
+	for i := range e {
+		e[i] += 3 * trigonometric10LBFGSCentralAbs(g[i]-doubled[i])
+	}
+	return calls + 2*trigonometric10LBFGSCentralDerivativeCost, true
 }
 
 // trigonometric10LBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
@@ -448,6 +732,43 @@ func trigonometric10LBFGSCentralStepWithin(s, x *[10]float64, tol float64) bool 
 		}
 	}
 	return true
+}
+
+// trigonometric10LBFGSCentralSettle prepares the final verdict at a stall: with differences it
+// confirms the gradient (trigonometric10LBFGSCentralConfirmGradient), then it adds to each error
+// bound the rounding floor of x (trigonometric10LBFGSCentralRoundingFloor). It returns the objective
+// calls spent and false when budget ran out first.
+func trigonometric10LBFGSCentralSettle(x *[10]float64, fx float64, g, e *[10]float64, diffs *trigonometric10LBFGSCentralDifferences, budget int) (int, bool) {
+	calls := 0
+	if trigonometric10LBFGSCentralDerivativeCost > 0 {
+		spent, ok := trigonometric10LBFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
+	}
+	trigonometric10LBFGSCentralRoundingFloor(x, g, e, diffs)
+	return calls, true
+}
+
+// trigonometric10LBFGSCentralRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
+// that moving xᵢ by a few of its rounding units makes in gᵢ:
+// where no step the step test resolves decreases f, a gradient that small
+// is zero to the rounding of x (the resolution of x in floating point,
+// common practice). It is added only at a stall, so a gradient far above
+// it still ends the run as stalled.
+func trigonometric10LBFGSCentralRoundingFloor(x, g, e *[10]float64, diffs *trigonometric10LBFGSCentralDifferences) {
+	var h [10]float64
+	trigonometric10LBFGSCentralDiagonalCurvature(x, g, diffs, &h)
+	for i := range e {
+		e[i] += 4 * trigonometric10LBFGSCentralUnitRoundoff * trigonometric10LBFGSCentralAbs(x[i]) * h[i]
+	}
+}
+
+// trigonometric10LBFGSCentralDiagonalCurvature takes each |f″| along eᵢ from the differences' last
+// calibration, which trigonometric10LBFGSCentralConfirmGradient has just made at x.
+func trigonometric10LBFGSCentralDiagonalCurvature(x, g *[10]float64, diffs *trigonometric10LBFGSCentralDifferences, h *[10]float64) {
+	*h = diffs.second
 }
 
 // trigonometric10LBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
@@ -486,7 +807,7 @@ func trigonometric10LBFGSCentralTinyStep(x, d *[10]float64, tol float64) float64
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func trigonometric10LBFGSCentralLineSearch(x *[10]float64, fx float64, d *[10]float64, slope, first, tiny float64, budget int, xt, gt *[10]float64) trigonometric10LBFGSCentralLineResult {
+func trigonometric10LBFGSCentralLineSearch(x *[10]float64, fx float64, d *[10]float64, slope, first, tiny float64, budget int, xt, gt *[10]float64, diffs *trigonometric10LBFGSCentralDifferences) trigonometric10LBFGSCentralLineResult {
 	low := trigonometric10LBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high trigonometric10LBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                          // ∇f at low, kept for accepting low from a collapsed bracket
@@ -518,7 +839,7 @@ func trigonometric10LBFGSCentralLineSearch(x *[10]float64, fx float64, d *[10]fl
 			if calls+trigonometric10LBFGSCentralDerivativeCost > budget {
 				return trigonometric10LBFGSCentralLineResult{calls: calls, end: trigonometric10LBFGSCentralSearchOutOfBudget}
 			}
-			trigonometric10LBFGSCentralDerivative(xt, current.value, gt)
+			trigonometric10LBFGSCentralDerivative(xt, current.value, gt, diffs)
 			calls += trigonometric10LBFGSCentralDerivativeCost
 			current.slope, current.hasSlope = trigonometric10LBFGSCentralDot(gt, d), true
 			switch {
@@ -543,7 +864,7 @@ func trigonometric10LBFGSCentralLineSearch(x *[10]float64, fx float64, d *[10]fl
 	if low.step > 0 {
 		return trigonometric10LBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
 	}
-	return trigonometric10LBFGSCentralLineResult{calls: calls, end: trigonometric10LBFGSCentralSearchExhausted}
+	return trigonometric10LBFGSCentralLineResult{calls: calls, rising: trend.contradicts(), end: trigonometric10LBFGSCentralSearchExhausted}
 }
 
 // trigonometric10LBFGSCentralLineResult is what a line search reports to the kernel.
@@ -644,6 +965,7 @@ const (
 	trigonometric10LBFGSCentralSearchExhausted                                               // trigonometric10LBFGSCentralStepTrials trials met none
 	trigonometric10LBFGSCentralSearchOutOfBudget                                             // the evaluation cap came first
 	trigonometric10LBFGSCentralSearchTiny                                                    // every step longer than tiny failed to decrease f
+	trigonometric10LBFGSCentralSearchDiverged                                                // a fixed step's value overflowed
 )
 
 // trigonometric10LBFGSCentralAcceptLow ends a Wolfe search with its best trial, which met sufficient
@@ -709,26 +1031,6 @@ func trigonometric10LBFGSCentralModelMinimizer(a, b *trigonometric10LBFGSCentral
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, trigonometric10LBFGSCentralFinite(t)
-}
-
-// trigonometric10LBFGSCentralSquareRoot returns √v.
-func trigonometric10LBFGSCentralSquareRoot(v float64) float64 {
-	return math.Sqrt(v)
-}
-
-// trigonometric10LBFGSCentralClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func trigonometric10LBFGSCentralClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // trigonometric10LBFGSCentralExpandTrial picks a larger trial after current met sufficient decrease

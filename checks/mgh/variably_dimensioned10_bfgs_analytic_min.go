@@ -8,10 +8,10 @@ import "math"
 type VariablyDimensioned10BFGSAnalyticStatus uint8
 
 const (
-	// VariablyDimensioned10BFGSAnalyticGradientSmall: the largest gradient component fell to the gradient limit: converged.
+	// VariablyDimensioned10BFGSAnalyticGradientSmall: the gradient test holds at X: its measure, with the differences' error bound when they are used, is at most the gradient limit: converged.
 	VariablyDimensioned10BFGSAnalyticGradientSmall VariablyDimensioned10BFGSAnalyticStatus = iota + 1
-	// VariablyDimensioned10BFGSAnalyticStepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f: converged.
-	VariablyDimensioned10BFGSAnalyticStepTiny
+	// VariablyDimensioned10BFGSAnalyticStalled: the step test ended the run, or no step longer than the step limit decreased f, while the gradient test still fails: X is as far as the run could get, not a verified minimizer.
+	VariablyDimensioned10BFGSAnalyticStalled
 	// VariablyDimensioned10BFGSAnalyticOutOfIterations: the iteration limit came first.
 	VariablyDimensioned10BFGSAnalyticOutOfIterations
 	// VariablyDimensioned10BFGSAnalyticOutOfEvaluations: the next objective call would have exceeded the evaluation cap.
@@ -22,8 +22,10 @@ const (
 	VariablyDimensioned10BFGSAnalyticNonFiniteStart
 	// VariablyDimensioned10BFGSAnalyticNonFiniteGradient: a gradient component became NaN or ±Inf.
 	VariablyDimensioned10BFGSAnalyticNonFiniteGradient
-	// VariablyDimensioned10BFGSAnalyticNoDecrease: no step longer than the step limit decreased f, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test).
+	// VariablyDimensioned10BFGSAnalyticNoDecrease: the line search found no acceptable step, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test).
 	VariablyDimensioned10BFGSAnalyticNoDecrease
+	// VariablyDimensioned10BFGSAnalyticDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
+	VariablyDimensioned10BFGSAnalyticDiverged
 )
 
 // String describes the status in a few words.
@@ -31,8 +33,8 @@ func (s VariablyDimensioned10BFGSAnalyticStatus) String() string {
 	switch s {
 	case VariablyDimensioned10BFGSAnalyticGradientSmall:
 		return "gradient small"
-	case VariablyDimensioned10BFGSAnalyticStepTiny:
-		return "step tiny"
+	case VariablyDimensioned10BFGSAnalyticStalled:
+		return "stalled"
 	case VariablyDimensioned10BFGSAnalyticOutOfIterations:
 		return "out of iterations"
 	case VariablyDimensioned10BFGSAnalyticOutOfEvaluations:
@@ -45,28 +47,32 @@ func (s VariablyDimensioned10BFGSAnalyticStatus) String() string {
 		return "non-finite gradient"
 	case VariablyDimensioned10BFGSAnalyticNoDecrease:
 		return "no decrease"
+	case VariablyDimensioned10BFGSAnalyticDiverged:
+		return "diverged"
 	default:
 		return "unknown status"
 	}
 }
 
-// Converged reports whether a convergence test, on the gradient or on the step, ended the run; limits, line-search failure and non-finite values are not convergence.
+// Converged reports whether the gradient test holds at X (Gradient ≤ GradientLimit in the result): only then is X a verified stationary point; a stall, the limits, line-search failure and non-finite values are not convergence.
 func (s VariablyDimensioned10BFGSAnalyticStatus) Converged() bool {
-	return s == VariablyDimensioned10BFGSAnalyticGradientSmall || s == VariablyDimensioned10BFGSAnalyticStepTiny
+	return s == VariablyDimensioned10BFGSAnalyticGradientSmall
 }
 
 // VariablyDimensioned10BFGSAnalyticResult is where VariablyDimensioned10BFGSAnalytic stopped and why.
 type VariablyDimensioned10BFGSAnalyticResult struct {
-	X           [10]float64                             // the last accepted point, the best one found
-	F           float64                                 // the objective at X
-	Iterations  int                                     // accepted steps
-	Evaluations int                                     // objective calls, finite differences included
-	Status      VariablyDimensioned10BFGSAnalyticStatus // why the run stopped; check Status.Converged()
+	X             [10]float64                             // where the gradient test held, when converged; else the lowest point seen
+	F             float64                                 // the objective at X
+	Gradient      float64                                 // the gradient test's measure at X, the differences' error bound included; NaN when the run ended before the gradient at X was known
+	GradientLimit float64                                 // the limit Gradient was held to: Limits.Gradient, raised with differences to ten times the measure of their error bound; converged runs have Gradient ≤ GradientLimit
+	Iterations    int                                     // accepted steps
+	Evaluations   int                                     // objective calls, finite differences included
+	Status        VariablyDimensioned10BFGSAnalyticStatus // why the run stopped; check Status.Converged()
 }
 
 // VariablyDimensioned10BFGSAnalyticLimits are the stop limits of one run. Pass them to VariablyDimensioned10BFGSAnalyticWithLimits to change them at run time; VariablyDimensioned10BFGSAnalyticDefaultLimits returns the spec's.
 type VariablyDimensioned10BFGSAnalyticLimits struct {
-	Gradient    float64 // stop when the largest |∂f/∂xᵢ| is at most this
+	Gradient    float64 // stop, converged, when the gradient test's measure is at most this (with differences, at most ten times the measure of their error bound where that is larger)
 	Step        float64 // stop when every |Δxᵢ| is at most this·(|xᵢ| + 1)
 	Iterations  int     // most accepted steps
 	Evaluations int     // hard cap on objective calls, finite differences included; never exceeded
@@ -87,10 +93,11 @@ func VariablyDimensioned10BFGSAnalyticDefaultLimits() VariablyDimensioned10BFGSA
 // Direction bfgs: BFGS quasi-Newton with a dense inverse-Hessian approximation (dim² numbers).
 // Step rule wolfe: bracket and zoom until sufficient decrease and the curvature condition hold.
 // Derivative analytic: the user's own gradient function (spec key `gradient`); costs no objective calls.
+// Gradient test relative: max over i of (|∂f/∂xᵢ| + eᵢ)·max(|xᵢ|, 1)/max(|f(x)|, 1), eᵢ the error bound of differences (0 for an analytic gradient).
 // Constants: initial 1.0, c1 0.0001, c2 0.9, at most 48 trials per line search.
-// Default stop: largest gradient component ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
+// Default stop: gradient measure ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
 //
-// Worst case: 200000 objective calls (the evaluation cap; the iteration limit alone would allow 240001). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
+// Worst case: 200000 objective calls (the evaluation cap; the iteration limit alone would allow 240049). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
 func VariablyDimensioned10BFGSAnalytic(x0 [10]float64) VariablyDimensioned10BFGSAnalyticResult {
 	return VariablyDimensioned10BFGSAnalyticWithLimits(x0, VariablyDimensioned10BFGSAnalyticDefaultLimits())
@@ -100,11 +107,13 @@ func VariablyDimensioned10BFGSAnalytic(x0 [10]float64) VariablyDimensioned10BFGS
 func VariablyDimensioned10BFGSAnalyticWithLimits(x0 [10]float64, limits VariablyDimensioned10BFGSAnalyticLimits) VariablyDimensioned10BFGSAnalyticResult {
 	out := variablyDimensioned10BFGSAnalyticMinimize(x0, limits)
 	return VariablyDimensioned10BFGSAnalyticResult{
-		Evaluations: out.evaluations,
-		F:           out.f,
-		Iterations:  out.iterations,
-		Status:      out.status,
-		X:           out.x,
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
 	}
 }
 
@@ -121,22 +130,36 @@ const (
 
 // variablyDimensioned10BFGSAnalyticMinimize runs the descent loop from x0 within lim:
 //
-//  1. stop when the largest gradient component is at most lim.Gradient;
+//  1. stop, converged, when the gradient measure (variablyDimensioned10BFGSAnalyticGradientMeasure, error
+//     bound of differences included) is at most the limit: lim.Gradient,
+//     or three times the measure of the differences' error bound when that is
+//     larger, so that the limit can be met (the floor the test can see);
+//     differences confirm it first (variablyDimensioned10BFGSAnalyticConfirmGradient);
 //  2. stop after lim.Iterations accepted steps;
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
-//  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged,
-//     unless f contradicts an analytic gradient: no decrease);
+//  4. search along d; stop when no trial is acceptable or only steps
+//     shorter than the step limit are left to try: stalled, or no
+//     decrease when f contradicts an analytic gradient (see variablyDimensioned10BFGSAnalyticRiseTrend);
 //  5. move, refresh the gradient, let the direction learn from the step;
-//  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
+//  6. stop, stalled, when every |Δx_i| is at most lim.Step·(|x_i| + 1) while
+//     the gradient test still fails. At a stall the run settles first
+//     (settle): the error bound gains the rounding floor of x, with
+//     differences confirmed, and the limit rises to ten times the larger
+//     of lim.Gradient and the bound's measure; a gradient within that is
+//     as small as this point can show, and the run is converged with that
+//     limit, which it reports.
 //
-// Before every objective call it checks that lim.Evaluations leaves room
-// for it, so the cap is never exceeded. A NaN or ±Inf at the start or in a
+// Only step 1 is convergence: the first-order test holds at X. Before
+// every objective call it checks that lim.Evaluations leaves room for it,
+// so the cap is never exceeded. A NaN or ±Inf at the start or in a
 // gradient ends the run with its own status; a non-finite trial value is
-// rejected by the line search like any failed trial.
+// rejected by the line search like any failed trial. X is the best point
+// seen unless the run converged, which it did at X. A fixed step whose
+// value overflows, or that raised f above f(x0) at eight steps in a row,
+// ends the run as diverged (common practice for a divergence test).
 func variablyDimensioned10BFGSAnalyticMinimize(x0 [10]float64, lim VariablyDimensioned10BFGSAnalyticLimits) variablyDimensioned10BFGSAnalyticOutcome {
-	out := variablyDimensioned10BFGSAnalyticOutcome{x: x0, status: VariablyDimensioned10BFGSAnalyticOutOfEvaluations}
+	out := variablyDimensioned10BFGSAnalyticOutcome{x: x0, status: VariablyDimensioned10BFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
@@ -147,11 +170,14 @@ func variablyDimensioned10BFGSAnalyticMinimize(x0 [10]float64, lim VariablyDimen
 		out.status = VariablyDimensioned10BFGSAnalyticNonFiniteStart
 		return out
 	}
-	if out.evaluations+variablyDimensioned10BFGSAnalyticDerivativeCost > lim.Evaluations {
+	var diffs variablyDimensioned10BFGSAnalyticDifferences
+	calls, ok := variablyDimensioned10BFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
+	out.evaluations += calls
+	if !ok || out.evaluations+variablyDimensioned10BFGSAnalyticDerivativeCost > lim.Evaluations {
 		return out
 	}
-	var g [10]float64
-	variablyDimensioned10BFGSAnalyticDerivative(&x, fx, &g)
+	var g, e [10]float64
+	variablyDimensioned10BFGSAnalyticDerivative(&x, fx, &g, &diffs)
 	out.evaluations += variablyDimensioned10BFGSAnalyticDerivativeCost
 
 	if !variablyDimensioned10BFGSAnalyticFiniteVec(&g) {
@@ -162,21 +188,76 @@ func variablyDimensioned10BFGSAnalyticMinimize(x0 [10]float64, lim VariablyDimen
 	dir.reset()
 	var d, xt, gt, s, y [10]float64
 	t, slope := float64(variablyDimensioned10BFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
+	best := out                                                                   // the lowest point seen, for runs that end unconverged
+	start, rises := fx, 0                                                         // f(x0), and consecutive accepted steps that raised f above it
+	confirmed := false                                                            // whether g and e at x come from variablyDimensioned10BFGSAnalyticConfirmGradient
+	stalled := false                                                              // whether the run can make no more progress at x
+	retried := -1                                                                 // the iteration whose stall was retried with recalibrated differences
 	for {
-		if variablyDimensioned10BFGSAnalyticMaxAbs(&g) <= lim.Gradient {
+		if !confirmed {
+			variablyDimensioned10BFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
+		}
+		measure, floor := variablyDimensioned10BFGSAnalyticGradientMeasure(&g, &e, &x, fx)
+		out.gradient, out.gradientLimit = measure, variablyDimensioned10BFGSAnalyticLarger(lim.Gradient, 3*floor)
+		if stalled {
+			// No step can make progress here: the gradient is as small as
+			// this point shows it, within ten times the limit or the floor.
+			out.gradientLimit = 10 * variablyDimensioned10BFGSAnalyticLarger(lim.Gradient, floor)
+		}
+		if out.f <= best.f {
+			best = out
+		}
+		if measure <= out.gradientLimit && (variablyDimensioned10BFGSAnalyticDerivativeCost == 0 || confirmed) {
 			out.status = VariablyDimensioned10BFGSAnalyticGradientSmall
 			return out
 		}
-		if out.iterations > 0 {
+		if measure <= out.gradientLimit {
+			// Differences pass the test: confirm it with intervals chosen
+			// here and an error measured rather than modelled.
+			calls, ok := variablyDimensioned10BFGSAnalyticConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(VariablyDimensioned10BFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !variablyDimensioned10BFGSAnalyticFiniteVec(&g) {
+				return best.ending(VariablyDimensioned10BFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			confirmed = true
+			continue
+		}
+		if stalled {
+			// Settled and still above the limit: stalled, unless
+			// differences, whose intervals were just chosen here, can
+			// search once more with the better gradient.
+			if variablyDimensioned10BFGSAnalyticDerivativeCost == 0 {
+				return best.ending(VariablyDimensioned10BFGSAnalyticStalled, out.iterations, out.evaluations)
+			}
+			stalled, retried = false, out.iterations
+		}
+		// At a stall, settle first: the run is converged if the gradient
+		// is zero to the rounding of x (and, with differences, to their
+		// accuracy, confirmed); see settle.
+		canSettle := retried != out.iterations
+		if out.iterations > 0 && canSettle {
 			if variablyDimensioned10BFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				out.status = VariablyDimensioned10BFGSAnalyticStepTiny
-				return out
+				calls, ok := variablyDimensioned10BFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+				out.evaluations += calls
+				if !ok {
+					return best.ending(VariablyDimensioned10BFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+				}
+				if !variablyDimensioned10BFGSAnalyticFiniteVec(&g) {
+					return best.ending(VariablyDimensioned10BFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+				}
+				stalled, confirmed = true, true
+				continue
+			}
+			if rises >= 8 {
+				return best.ending(VariablyDimensioned10BFGSAnalyticDiverged, out.iterations, out.evaluations)
 			}
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
-			out.status = VariablyDimensioned10BFGSAnalyticOutOfIterations
-			return out
+			return best.ending(VariablyDimensioned10BFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
 		}
 		dir.compute(&g, &d)
 		now := variablyDimensioned10BFGSAnalyticDot(&g, &d)
@@ -190,50 +271,70 @@ func variablyDimensioned10BFGSAnalyticMinimize(x0 [10]float64, lim VariablyDimen
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := variablyDimensioned10BFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := variablyDimensioned10BFGSAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt)
+		found := variablyDimensioned10BFGSAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case variablyDimensioned10BFGSAnalyticSearchOutOfBudget:
-			return out
-		case variablyDimensioned10BFGSAnalyticSearchExhausted:
-			out.status = VariablyDimensioned10BFGSAnalyticNoAcceptableStep
-			return out
-		case variablyDimensioned10BFGSAnalyticSearchTiny:
-			// Converged to the step limit: no step the step test would
-			// reject decreases f. Not so when an analytic gradient is
-			// contradicted by f rising in proportion to the step (see
-			// variablyDimensioned10BFGSAnalyticRiseTrend, which never reports that for differences).
-			out.status = VariablyDimensioned10BFGSAnalyticStepTiny
-			if found.rising {
-				out.status = VariablyDimensioned10BFGSAnalyticNoDecrease
+			return best.ending(VariablyDimensioned10BFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+		case variablyDimensioned10BFGSAnalyticSearchDiverged:
+			return best.ending(VariablyDimensioned10BFGSAnalyticDiverged, out.iterations, out.evaluations)
+		case variablyDimensioned10BFGSAnalyticSearchExhausted, variablyDimensioned10BFGSAnalyticSearchTiny:
+			// No acceptable step. When an analytic gradient predicted a
+			// fall that f contradicted in proportion to the step, the
+			// gradient is probably wrong (see variablyDimensioned10BFGSAnalyticRiseTrend, which never
+			// reports that for differences); otherwise the search stalled
+			// below the step limit, or ran out of trials.
+			end := VariablyDimensioned10BFGSAnalyticNoAcceptableStep
+			switch {
+			case found.rising:
+				end = VariablyDimensioned10BFGSAnalyticNoDecrease
+			case found.end == variablyDimensioned10BFGSAnalyticSearchTiny && canSettle:
+				calls, ok := variablyDimensioned10BFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+				out.evaluations += calls
+				if !ok {
+					return best.ending(VariablyDimensioned10BFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+				}
+				if !variablyDimensioned10BFGSAnalyticFiniteVec(&g) {
+					return best.ending(VariablyDimensioned10BFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+				}
+				stalled, confirmed = true, true
+				continue
+			case found.end == variablyDimensioned10BFGSAnalyticSearchTiny:
+				end = VariablyDimensioned10BFGSAnalyticStalled
 			}
-			return out
+			return best.ending(end, out.iterations, out.evaluations)
 		}
 		if !variablyDimensioned10BFGSAnalyticFiniteVec(&xt) {
-			out.status = VariablyDimensioned10BFGSAnalyticNoAcceptableStep // the accepted trial overflowed x
-			return out
+			return best.ending(VariablyDimensioned10BFGSAnalyticNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
 		}
 		if !found.gradient {
 			if out.evaluations+variablyDimensioned10BFGSAnalyticDerivativeCost > lim.Evaluations {
-				if found.value < fx { // keep a better point even without its gradient
-					out.x, out.f = xt, found.value
+				if found.value < best.f { // keep a better point even without its gradient
+					best.x, best.f, best.gradient = xt, found.value, math.NaN()
 					out.iterations++
 				}
-				return out
+				return best.ending(VariablyDimensioned10BFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			variablyDimensioned10BFGSAnalyticDerivative(&xt, found.value, &gt)
+			variablyDimensioned10BFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
 			out.evaluations += variablyDimensioned10BFGSAnalyticDerivativeCost
 		}
 		out.iterations++
 		variablyDimensioned10BFGSAnalyticDifference(&s, &xt, &x)
 		variablyDimensioned10BFGSAnalyticDifference(&y, &gt, &g)
-		x, fx, g = xt, found.value, gt
-		out.x, out.f = x, fx
+		if found.value > fx && found.value > start {
+			rises++
+		} else {
+			rises = 0
+		}
+		x, fx, g, confirmed = xt, found.value, gt, false
+		out.x, out.f, out.gradient = x, fx, math.NaN()
 		t, slope = found.step, now
 
 		if !variablyDimensioned10BFGSAnalyticFiniteVec(&g) {
-			out.status = VariablyDimensioned10BFGSAnalyticNonFiniteGradient
-			return out
+			if out.f < best.f {
+				best = out
+			}
+			return best.ending(VariablyDimensioned10BFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
 		}
 	}
 }
@@ -241,11 +342,19 @@ func variablyDimensioned10BFGSAnalyticMinimize(x0 [10]float64, lim VariablyDimen
 // variablyDimensioned10BFGSAnalyticOutcome is the kernel's report; the generated entry point copies it into
 // the spec's result type.
 type variablyDimensioned10BFGSAnalyticOutcome struct {
-	x           [10]float64
-	f           float64
-	iterations  int
-	evaluations int
-	status      VariablyDimensioned10BFGSAnalyticStatus
+	x             [10]float64
+	f             float64
+	gradient      float64 // the stop test's measure at x, error bound included; NaN when not known
+	gradientLimit float64 // the limit that measure was held to
+	iterations    int
+	evaluations   int
+	status        VariablyDimensioned10BFGSAnalyticStatus
+}
+
+// ending is the best point seen, reported with the run's end and counts.
+func (o variablyDimensioned10BFGSAnalyticOutcome) ending(end VariablyDimensioned10BFGSAnalyticStatus, iterations, evaluations int) variablyDimensioned10BFGSAnalyticOutcome {
+	o.status, o.iterations, o.evaluations = end, iterations, evaluations
+	return o
 }
 
 // variablyDimensioned10BFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
@@ -270,8 +379,24 @@ func variablyDimensioned10BFGSAnalyticFiniteVec(x *[10]float64) bool {
 	return true
 }
 
+// variablyDimensioned10BFGSAnalyticDifferences is what the difference gradients learn from the objective
+// at the start: for each coordinate i, the interval as a multiple of
+// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
+// forward differences, |f‴| for central ones). The analytic gradient
+// leaves it unused.
+type variablyDimensioned10BFGSAnalyticDifferences struct {
+	ratio     [10]float64
+	curvature [10]float64
+	second    [10]float64 // |f″| along e_i, for the rounding floor of a stall (see variablyDimensioned10BFGSAnalyticRoundingFloor)
+}
+
+// variablyDimensioned10BFGSAnalyticCalibrate: an analytic gradient needs no intervals.
+func variablyDimensioned10BFGSAnalyticCalibrate(x *[10]float64, fx float64, diffs *variablyDimensioned10BFGSAnalyticDifferences, budget int) (int, bool) {
+	return 0, true
+}
+
 // variablyDimensioned10BFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func variablyDimensioned10BFGSAnalyticDerivative(x *[10]float64, fx float64, g *[10]float64) {
+func variablyDimensioned10BFGSAnalyticDerivative(x *[10]float64, fx float64, g *[10]float64, diffs *variablyDimensioned10BFGSAnalyticDifferences) {
 	VariablyDimensioned10Grad(x, g)
 }
 
@@ -365,15 +490,43 @@ func variablyDimensioned10BFGSAnalyticCurvatureSafe(s, y *[10]float64) bool {
 	return sy > 0 && (sy/variablyDimensioned10BFGSAnalyticDot(s, s))*(sy/variablyDimensioned10BFGSAnalyticDot(y, y)) > variablyDimensioned10BFGSAnalyticUnitRoundoff
 }
 
-// variablyDimensioned10BFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
-func variablyDimensioned10BFGSAnalyticMaxAbs(x *[10]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := variablyDimensioned10BFGSAnalyticAbs(x[i]); a > m || a != a {
-			m = a
-		}
+// variablyDimensioned10BFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func variablyDimensioned10BFGSAnalyticGradientError(x *[10]float64, fx float64, g, e *[10]float64, diffs *variablyDimensioned10BFGSAnalyticDifferences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return m
+}
+
+// variablyDimensioned10BFGSAnalyticGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func variablyDimensioned10BFGSAnalyticGradientMeasure(g, e, x *[10]float64, fx float64) (measure, floor float64) {
+	scale := variablyDimensioned10BFGSAnalyticLarger(variablyDimensioned10BFGSAnalyticAbs(fx), 1)
+	for i := range g {
+		w := variablyDimensioned10BFGSAnalyticLarger(variablyDimensioned10BFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = variablyDimensioned10BFGSAnalyticLarger(measure, (variablyDimensioned10BFGSAnalyticAbs(g[i])+e[i])*w)
+		floor = variablyDimensioned10BFGSAnalyticLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// variablyDimensioned10BFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func variablyDimensioned10BFGSAnalyticLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
 }
 
 // variablyDimensioned10BFGSAnalyticAbs returns |v|.
@@ -382,6 +535,36 @@ func variablyDimensioned10BFGSAnalyticAbs(v float64) float64 {
 		return -v
 	}
 	return v
+}
+
+// variablyDimensioned10BFGSAnalyticConfirmGradient recomputes a difference gradient at x before the run is
+// called converged there: it chooses the intervals again from the
+// curvature at x (calibrate), computes g with them and with twice them,
+// and bounds each component's error by the model (variablyDimensioned10BFGSAnalyticGradientError) plus
+// three times the change the doubling made. That change measures what the
+// model can miss, truncation from curvature that varies and rounding
+// noise above 4u·|f|; as one sample of that noise it is tripled
+// (Richardson's idea of comparing two intervals; the factor is common
+// practice for a posteriori error estimates). It costs a calibration and two
+// gradients, and returns the calls spent and false when budget ran out
+// first.
+func variablyDimensioned10BFGSAnalyticConfirmGradient(x *[10]float64, fx float64, g, e *[10]float64, diffs *variablyDimensioned10BFGSAnalyticDifferences, budget int) (int, bool) {
+	calls, ok := variablyDimensioned10BFGSAnalyticCalibrate(x, fx, diffs, budget)
+	if !ok || calls+2*variablyDimensioned10BFGSAnalyticDerivativeCost > budget {
+		return calls, false
+	}
+	wide := *diffs
+	for i := range wide.ratio {
+		wide.ratio[i] *= 2
+	}
+	var doubled [10]float64
+	variablyDimensioned10BFGSAnalyticDerivative(x, fx, g, diffs)
+	variablyDimensioned10BFGSAnalyticDerivative(x, fx, &doubled, &wide)
+	variablyDimensioned10BFGSAnalyticGradientError(x, fx, g, e, diffs)
+	for i := range e {
+		e[i] += 3 * variablyDimensioned10BFGSAnalyticAbs(g[i]-doubled[i])
+	}
+	return calls + 2*variablyDimensioned10BFGSAnalyticDerivativeCost, true
 }
 
 // variablyDimensioned10BFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
@@ -394,6 +577,65 @@ func variablyDimensioned10BFGSAnalyticStepWithin(s, x *[10]float64, tol float64)
 		}
 	}
 	return true
+}
+
+// variablyDimensioned10BFGSAnalyticSettle prepares the final verdict at a stall: with differences it
+// confirms the gradient (variablyDimensioned10BFGSAnalyticConfirmGradient), then it adds to each error
+// bound the rounding floor of x (variablyDimensioned10BFGSAnalyticRoundingFloor). It returns the objective
+// calls spent and false when budget ran out first.
+func variablyDimensioned10BFGSAnalyticSettle(x *[10]float64, fx float64, g, e *[10]float64, diffs *variablyDimensioned10BFGSAnalyticDifferences, budget int) (int, bool) {
+	calls := 0
+	if variablyDimensioned10BFGSAnalyticDerivativeCost > 0 {
+		spent, ok := variablyDimensioned10BFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
+	}
+	variablyDimensioned10BFGSAnalyticRoundingFloor(x, g, e, diffs)
+	return calls, true
+}
+
+// variablyDimensioned10BFGSAnalyticRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
+// that moving xᵢ by a few of its rounding units makes in gᵢ:
+// where no step the step test resolves decreases f, a gradient that small
+// is zero to the rounding of x (the resolution of x in floating point,
+// common practice). It is added only at a stall, so a gradient far above
+// it still ends the run as stalled.
+func variablyDimensioned10BFGSAnalyticRoundingFloor(x, g, e *[10]float64, diffs *variablyDimensioned10BFGSAnalyticDifferences) {
+	var h [10]float64
+	variablyDimensioned10BFGSAnalyticDiagonalCurvature(x, g, diffs, &h)
+	for i := range e {
+		e[i] += 4 * variablyDimensioned10BFGSAnalyticUnitRoundoff * variablyDimensioned10BFGSAnalyticAbs(x[i]) * h[i]
+	}
+}
+
+// variablyDimensioned10BFGSAnalyticDiagonalCurvature estimates each |∂²f/∂xᵢ²| from the analytic gradient
+// at x + δᵢeᵢ, δᵢ = √u·max(1, |xᵢ|): dim gradient calls and no objective
+// call (a forward difference of the gradient, Nocedal & Wright 2006,
+// §8.1).
+func variablyDimensioned10BFGSAnalyticDiagonalCurvature(x, g *[10]float64, diffs *variablyDimensioned10BFGSAnalyticDifferences, h *[10]float64) {
+	probe := *x
+	var moved [10]float64
+	for i := range probe {
+		xi := probe[i]
+		up, delta := variablyDimensioned10BFGSAnalyticProbeStep(xi, variablyDimensioned10BFGSAnalyticSquareRoot(variablyDimensioned10BFGSAnalyticUnitRoundoff)*variablyDimensioned10BFGSAnalyticLarger(1, variablyDimensioned10BFGSAnalyticAbs(xi)))
+		probe[i] = up
+		VariablyDimensioned10Grad(&probe, &moved)
+		h[i] = variablyDimensioned10BFGSAnalyticAbs(moved[i]-g[i]) / delta
+		probe[i] = xi
+	}
+}
+
+// variablyDimensioned10BFGSAnalyticProbeStep returns x_i moved by h, and the step actually representable.
+func variablyDimensioned10BFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
+	moved := xi + h
+	return moved, moved - xi
+}
+
+// variablyDimensioned10BFGSAnalyticSquareRoot returns √v.
+func variablyDimensioned10BFGSAnalyticSquareRoot(v float64) float64 {
+	return math.Sqrt(v)
 }
 
 // variablyDimensioned10BFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
@@ -432,7 +674,7 @@ func variablyDimensioned10BFGSAnalyticTinyStep(x, d *[10]float64, tol float64) f
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func variablyDimensioned10BFGSAnalyticLineSearch(x *[10]float64, fx float64, d *[10]float64, slope, first, tiny float64, budget int, xt, gt *[10]float64) variablyDimensioned10BFGSAnalyticLineResult {
+func variablyDimensioned10BFGSAnalyticLineSearch(x *[10]float64, fx float64, d *[10]float64, slope, first, tiny float64, budget int, xt, gt *[10]float64, diffs *variablyDimensioned10BFGSAnalyticDifferences) variablyDimensioned10BFGSAnalyticLineResult {
 	low := variablyDimensioned10BFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high variablyDimensioned10BFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                                // ∇f at low, kept for accepting low from a collapsed bracket
@@ -464,7 +706,7 @@ func variablyDimensioned10BFGSAnalyticLineSearch(x *[10]float64, fx float64, d *
 			if calls+variablyDimensioned10BFGSAnalyticDerivativeCost > budget {
 				return variablyDimensioned10BFGSAnalyticLineResult{calls: calls, end: variablyDimensioned10BFGSAnalyticSearchOutOfBudget}
 			}
-			variablyDimensioned10BFGSAnalyticDerivative(xt, current.value, gt)
+			variablyDimensioned10BFGSAnalyticDerivative(xt, current.value, gt, diffs)
 			calls += variablyDimensioned10BFGSAnalyticDerivativeCost
 			current.slope, current.hasSlope = variablyDimensioned10BFGSAnalyticDot(gt, d), true
 			switch {
@@ -489,7 +731,7 @@ func variablyDimensioned10BFGSAnalyticLineSearch(x *[10]float64, fx float64, d *
 	if low.step > 0 {
 		return variablyDimensioned10BFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
 	}
-	return variablyDimensioned10BFGSAnalyticLineResult{calls: calls, end: variablyDimensioned10BFGSAnalyticSearchExhausted}
+	return variablyDimensioned10BFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: variablyDimensioned10BFGSAnalyticSearchExhausted}
 }
 
 // variablyDimensioned10BFGSAnalyticLineResult is what a line search reports to the kernel.
@@ -590,6 +832,7 @@ const (
 	variablyDimensioned10BFGSAnalyticSearchExhausted                                                     // variablyDimensioned10BFGSAnalyticStepTrials trials met none
 	variablyDimensioned10BFGSAnalyticSearchOutOfBudget                                                   // the evaluation cap came first
 	variablyDimensioned10BFGSAnalyticSearchTiny                                                          // every step longer than tiny failed to decrease f
+	variablyDimensioned10BFGSAnalyticSearchDiverged                                                      // a fixed step's value overflowed
 )
 
 // variablyDimensioned10BFGSAnalyticAcceptLow ends a Wolfe search with its best trial, which met sufficient
@@ -655,11 +898,6 @@ func variablyDimensioned10BFGSAnalyticModelMinimizer(a, b *variablyDimensioned10
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, variablyDimensioned10BFGSAnalyticFinite(t)
-}
-
-// variablyDimensioned10BFGSAnalyticSquareRoot returns √v.
-func variablyDimensioned10BFGSAnalyticSquareRoot(v float64) float64 {
-	return math.Sqrt(v)
 }
 
 // variablyDimensioned10BFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in

@@ -8,10 +8,10 @@ import "math"
 type VariablyDimensioned10LBFGSCentralStatus uint8
 
 const (
-	// VariablyDimensioned10LBFGSCentralGradientSmall: the largest gradient component fell to the gradient limit: converged.
+	// VariablyDimensioned10LBFGSCentralGradientSmall: the gradient test holds at X: its measure, with the differences' error bound when they are used, is at most the gradient limit: converged.
 	VariablyDimensioned10LBFGSCentralGradientSmall VariablyDimensioned10LBFGSCentralStatus = iota + 1
-	// VariablyDimensioned10LBFGSCentralStepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f: converged.
-	VariablyDimensioned10LBFGSCentralStepTiny
+	// VariablyDimensioned10LBFGSCentralStalled: the step test ended the run, or no step longer than the step limit decreased f, while the gradient test still fails: X is as far as the run could get, not a verified minimizer.
+	VariablyDimensioned10LBFGSCentralStalled
 	// VariablyDimensioned10LBFGSCentralOutOfIterations: the iteration limit came first.
 	VariablyDimensioned10LBFGSCentralOutOfIterations
 	// VariablyDimensioned10LBFGSCentralOutOfEvaluations: the next objective call would have exceeded the evaluation cap.
@@ -22,8 +22,10 @@ const (
 	VariablyDimensioned10LBFGSCentralNonFiniteStart
 	// VariablyDimensioned10LBFGSCentralNonFiniteGradient: a gradient component became NaN or ±Inf.
 	VariablyDimensioned10LBFGSCentralNonFiniteGradient
-	// VariablyDimensioned10LBFGSCentralNoDecrease: no step longer than the step limit decreased f, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test).
+	// VariablyDimensioned10LBFGSCentralNoDecrease: the line search found no acceptable step, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test).
 	VariablyDimensioned10LBFGSCentralNoDecrease
+	// VariablyDimensioned10LBFGSCentralDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
+	VariablyDimensioned10LBFGSCentralDiverged
 )
 
 // String describes the status in a few words.
@@ -31,8 +33,8 @@ func (s VariablyDimensioned10LBFGSCentralStatus) String() string {
 	switch s {
 	case VariablyDimensioned10LBFGSCentralGradientSmall:
 		return "gradient small"
-	case VariablyDimensioned10LBFGSCentralStepTiny:
-		return "step tiny"
+	case VariablyDimensioned10LBFGSCentralStalled:
+		return "stalled"
 	case VariablyDimensioned10LBFGSCentralOutOfIterations:
 		return "out of iterations"
 	case VariablyDimensioned10LBFGSCentralOutOfEvaluations:
@@ -45,28 +47,32 @@ func (s VariablyDimensioned10LBFGSCentralStatus) String() string {
 		return "non-finite gradient"
 	case VariablyDimensioned10LBFGSCentralNoDecrease:
 		return "no decrease"
+	case VariablyDimensioned10LBFGSCentralDiverged:
+		return "diverged"
 	default:
 		return "unknown status"
 	}
 }
 
-// Converged reports whether a convergence test, on the gradient or on the step, ended the run; limits, line-search failure and non-finite values are not convergence.
+// Converged reports whether the gradient test holds at X (Gradient ≤ GradientLimit in the result): only then is X a verified stationary point; a stall, the limits, line-search failure and non-finite values are not convergence.
 func (s VariablyDimensioned10LBFGSCentralStatus) Converged() bool {
-	return s == VariablyDimensioned10LBFGSCentralGradientSmall || s == VariablyDimensioned10LBFGSCentralStepTiny
+	return s == VariablyDimensioned10LBFGSCentralGradientSmall
 }
 
 // VariablyDimensioned10LBFGSCentralResult is where VariablyDimensioned10LBFGSCentral stopped and why.
 type VariablyDimensioned10LBFGSCentralResult struct {
-	X           [10]float64                             // the last accepted point, the best one found
-	F           float64                                 // the objective at X
-	Iterations  int                                     // accepted steps
-	Evaluations int                                     // objective calls, finite differences included
-	Status      VariablyDimensioned10LBFGSCentralStatus // why the run stopped; check Status.Converged()
+	X             [10]float64                             // where the gradient test held, when converged; else the lowest point seen
+	F             float64                                 // the objective at X
+	Gradient      float64                                 // the gradient test's measure at X, the differences' error bound included; NaN when the run ended before the gradient at X was known
+	GradientLimit float64                                 // the limit Gradient was held to: Limits.Gradient, raised with differences to ten times the measure of their error bound; converged runs have Gradient ≤ GradientLimit
+	Iterations    int                                     // accepted steps
+	Evaluations   int                                     // objective calls, finite differences included
+	Status        VariablyDimensioned10LBFGSCentralStatus // why the run stopped; check Status.Converged()
 }
 
 // VariablyDimensioned10LBFGSCentralLimits are the stop limits of one run. Pass them to VariablyDimensioned10LBFGSCentralWithLimits to change them at run time; VariablyDimensioned10LBFGSCentralDefaultLimits returns the spec's.
 type VariablyDimensioned10LBFGSCentralLimits struct {
-	Gradient    float64 // stop when the largest |∂f/∂xᵢ| is at most this
+	Gradient    float64 // stop, converged, when the gradient test's measure is at most this (with differences, at most ten times the measure of their error bound where that is larger)
 	Step        float64 // stop when every |Δxᵢ| is at most this·(|xᵢ| + 1)
 	Iterations  int     // most accepted steps
 	Evaluations int     // hard cap on objective calls, finite differences included; never exceeded
@@ -86,11 +92,12 @@ func VariablyDimensioned10LBFGSCentralDefaultLimits() VariablyDimensioned10LBFGS
 //
 // Direction lbfgs: limited-memory BFGS: the last `memory` pairs, two-loop recursion (2·memory·dim numbers).
 // Step rule wolfe: bracket and zoom until sufficient decrease and the curvature condition hold.
-// Derivative central: central differences: 2·dim objective calls per gradient, error O(u^(2/3)).
+// Derivative central: central differences: 2·dim objective calls per gradient, intervals from the objective's curvature, error O(u^(2/3)).
+// Gradient test relative: max over i of (|∂f/∂xᵢ| + eᵢ)·max(|xᵢ|, 1)/max(|f(x)|, 1), eᵢ the error bound of differences (0 for an analytic gradient).
 // Constants: initial 1.0, c1 0.0001, c2 0.9, at most 48 trials per line search, memory 5 pairs.
-// Default stop: largest gradient component ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
+// Default stop: gradient measure ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
 //
-// Worst case: 200000 objective calls, 20 of them per gradient (the evaluation cap; the iteration limit alone would allow 5040021). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
+// Worst case: 200000 objective calls, 20 of them per gradient and 40 per choice of the difference intervals (at the start and before each convergence is confirmed) (the evaluation cap; the iteration limit alone would allow 5441149). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
 func VariablyDimensioned10LBFGSCentral(x0 [10]float64) VariablyDimensioned10LBFGSCentralResult {
 	return VariablyDimensioned10LBFGSCentralWithLimits(x0, VariablyDimensioned10LBFGSCentralDefaultLimits())
@@ -100,11 +107,13 @@ func VariablyDimensioned10LBFGSCentral(x0 [10]float64) VariablyDimensioned10LBFG
 func VariablyDimensioned10LBFGSCentralWithLimits(x0 [10]float64, limits VariablyDimensioned10LBFGSCentralLimits) VariablyDimensioned10LBFGSCentralResult {
 	out := variablyDimensioned10LBFGSCentralMinimize(x0, limits)
 	return VariablyDimensioned10LBFGSCentralResult{
-		Evaluations: out.evaluations,
-		F:           out.f,
-		Iterations:  out.iterations,
-		Status:      out.status,
-		X:           out.x,
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
 	}
 }
 
@@ -118,27 +127,40 @@ const (
 	variablyDimensioned10LBFGSCentralDerivativeCost = 20                     // objective calls per gradient
 	variablyDimensioned10LBFGSCentralUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
 	variablyDimensioned10LBFGSCentralLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
-	variablyDimensioned10LBFGSCentralCentralScale   = 4.806217383937352e-06  // ∛u, central-difference step scale (Nocedal & Wright 2006, §8.1)
 )
 
 // variablyDimensioned10LBFGSCentralMinimize runs the descent loop from x0 within lim:
 //
-//  1. stop when the largest gradient component is at most lim.Gradient;
+//  1. stop, converged, when the gradient measure (variablyDimensioned10LBFGSCentralGradientMeasure, error
+//     bound of differences included) is at most the limit: lim.Gradient,
+//     or three times the measure of the differences' error bound when that is
+//     larger, so that the limit can be met (the floor the test can see);
+//     differences confirm it first (variablyDimensioned10LBFGSCentralConfirmGradient);
 //  2. stop after lim.Iterations accepted steps;
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
-//  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged,
-//     unless f contradicts an analytic gradient: no decrease);
+//  4. search along d; stop when no trial is acceptable or only steps
+//     shorter than the step limit are left to try: stalled, or no
+//     decrease when f contradicts an analytic gradient (see variablyDimensioned10LBFGSCentralRiseTrend);
 //  5. move, refresh the gradient, let the direction learn from the step;
-//  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
+//  6. stop, stalled, when every |Δx_i| is at most lim.Step·(|x_i| + 1) while
+//     the gradient test still fails. At a stall the run settles first
+//     (settle): the error bound gains the rounding floor of x, with
+//     differences confirmed, and the limit rises to ten times the larger
+//     of lim.Gradient and the bound's measure; a gradient within that is
+//     as small as this point can show, and the run is converged with that
+//     limit, which it reports.
 //
-// Before every objective call it checks that lim.Evaluations leaves room
-// for it, so the cap is never exceeded. A NaN or ±Inf at the start or in a
+// Only step 1 is convergence: the first-order test holds at X. Before
+// every objective call it checks that lim.Evaluations leaves room for it,
+// so the cap is never exceeded. A NaN or ±Inf at the start or in a
 // gradient ends the run with its own status; a non-finite trial value is
-// rejected by the line search like any failed trial.
+// rejected by the line search like any failed trial. X is the best point
+// seen unless the run converged, which it did at X. A fixed step whose
+// value overflows, or that raised f above f(x0) at eight steps in a row,
+// ends the run as diverged (common practice for a divergence test).
 func variablyDimensioned10LBFGSCentralMinimize(x0 [10]float64, lim VariablyDimensioned10LBFGSCentralLimits) variablyDimensioned10LBFGSCentralOutcome {
-	out := variablyDimensioned10LBFGSCentralOutcome{x: x0, status: VariablyDimensioned10LBFGSCentralOutOfEvaluations}
+	out := variablyDimensioned10LBFGSCentralOutcome{x: x0, status: VariablyDimensioned10LBFGSCentralOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
@@ -149,11 +171,14 @@ func variablyDimensioned10LBFGSCentralMinimize(x0 [10]float64, lim VariablyDimen
 		out.status = VariablyDimensioned10LBFGSCentralNonFiniteStart
 		return out
 	}
-	if out.evaluations+variablyDimensioned10LBFGSCentralDerivativeCost > lim.Evaluations {
+	var diffs variablyDimensioned10LBFGSCentralDifferences
+	calls, ok := variablyDimensioned10LBFGSCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
+	out.evaluations += calls
+	if !ok || out.evaluations+variablyDimensioned10LBFGSCentralDerivativeCost > lim.Evaluations {
 		return out
 	}
-	var g [10]float64
-	variablyDimensioned10LBFGSCentralDerivative(&x, fx, &g)
+	var g, e [10]float64
+	variablyDimensioned10LBFGSCentralDerivative(&x, fx, &g, &diffs)
 	out.evaluations += variablyDimensioned10LBFGSCentralDerivativeCost
 
 	if !variablyDimensioned10LBFGSCentralFiniteVec(&g) {
@@ -164,21 +189,76 @@ func variablyDimensioned10LBFGSCentralMinimize(x0 [10]float64, lim VariablyDimen
 	dir.reset()
 	var d, xt, gt, s, y [10]float64
 	t, slope := float64(variablyDimensioned10LBFGSCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
+	best := out                                                                   // the lowest point seen, for runs that end unconverged
+	start, rises := fx, 0                                                         // f(x0), and consecutive accepted steps that raised f above it
+	confirmed := false                                                            // whether g and e at x come from variablyDimensioned10LBFGSCentralConfirmGradient
+	stalled := false                                                              // whether the run can make no more progress at x
+	retried := -1                                                                 // the iteration whose stall was retried with recalibrated differences
 	for {
-		if variablyDimensioned10LBFGSCentralMaxAbs(&g) <= lim.Gradient {
+		if !confirmed {
+			variablyDimensioned10LBFGSCentralGradientError(&x, fx, &g, &e, &diffs)
+		}
+		measure, floor := variablyDimensioned10LBFGSCentralGradientMeasure(&g, &e, &x, fx)
+		out.gradient, out.gradientLimit = measure, variablyDimensioned10LBFGSCentralLarger(lim.Gradient, 3*floor)
+		if stalled {
+			// No step can make progress here: the gradient is as small as
+			// this point shows it, within ten times the limit or the floor.
+			out.gradientLimit = 10 * variablyDimensioned10LBFGSCentralLarger(lim.Gradient, floor)
+		}
+		if out.f <= best.f {
+			best = out
+		}
+		if measure <= out.gradientLimit && (variablyDimensioned10LBFGSCentralDerivativeCost == 0 || confirmed) {
 			out.status = VariablyDimensioned10LBFGSCentralGradientSmall
 			return out
 		}
-		if out.iterations > 0 {
+		if measure <= out.gradientLimit {
+			// Differences pass the test: confirm it with intervals chosen
+			// here and an error measured rather than modelled.
+			calls, ok := variablyDimensioned10LBFGSCentralConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(VariablyDimensioned10LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !variablyDimensioned10LBFGSCentralFiniteVec(&g) {
+				return best.ending(VariablyDimensioned10LBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			confirmed = true
+			continue
+		}
+		if stalled {
+			// Settled and still above the limit: stalled, unless
+			// differences, whose intervals were just chosen here, can
+			// search once more with the better gradient.
+			if variablyDimensioned10LBFGSCentralDerivativeCost == 0 {
+				return best.ending(VariablyDimensioned10LBFGSCentralStalled, out.iterations, out.evaluations)
+			}
+			stalled, retried = false, out.iterations
+		}
+		// At a stall, settle first: the run is converged if the gradient
+		// is zero to the rounding of x (and, with differences, to their
+		// accuracy, confirmed); see settle.
+		canSettle := retried != out.iterations
+		if out.iterations > 0 && canSettle {
 			if variablyDimensioned10LBFGSCentralStepWithin(&s, &x, lim.Step) {
-				out.status = VariablyDimensioned10LBFGSCentralStepTiny
-				return out
+				calls, ok := variablyDimensioned10LBFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+				out.evaluations += calls
+				if !ok {
+					return best.ending(VariablyDimensioned10LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+				}
+				if !variablyDimensioned10LBFGSCentralFiniteVec(&g) {
+					return best.ending(VariablyDimensioned10LBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
+				}
+				stalled, confirmed = true, true
+				continue
+			}
+			if rises >= 8 {
+				return best.ending(VariablyDimensioned10LBFGSCentralDiverged, out.iterations, out.evaluations)
 			}
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
-			out.status = VariablyDimensioned10LBFGSCentralOutOfIterations
-			return out
+			return best.ending(VariablyDimensioned10LBFGSCentralOutOfIterations, out.iterations, out.evaluations)
 		}
 		dir.compute(&g, &d)
 		now := variablyDimensioned10LBFGSCentralDot(&g, &d)
@@ -192,50 +272,70 @@ func variablyDimensioned10LBFGSCentralMinimize(x0 [10]float64, lim VariablyDimen
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := variablyDimensioned10LBFGSCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := variablyDimensioned10LBFGSCentralLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt)
+		found := variablyDimensioned10LBFGSCentralLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case variablyDimensioned10LBFGSCentralSearchOutOfBudget:
-			return out
-		case variablyDimensioned10LBFGSCentralSearchExhausted:
-			out.status = VariablyDimensioned10LBFGSCentralNoAcceptableStep
-			return out
-		case variablyDimensioned10LBFGSCentralSearchTiny:
-			// Converged to the step limit: no step the step test would
-			// reject decreases f. Not so when an analytic gradient is
-			// contradicted by f rising in proportion to the step (see
-			// variablyDimensioned10LBFGSCentralRiseTrend, which never reports that for differences).
-			out.status = VariablyDimensioned10LBFGSCentralStepTiny
-			if found.rising {
-				out.status = VariablyDimensioned10LBFGSCentralNoDecrease
+			return best.ending(VariablyDimensioned10LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+		case variablyDimensioned10LBFGSCentralSearchDiverged:
+			return best.ending(VariablyDimensioned10LBFGSCentralDiverged, out.iterations, out.evaluations)
+		case variablyDimensioned10LBFGSCentralSearchExhausted, variablyDimensioned10LBFGSCentralSearchTiny:
+			// No acceptable step. When an analytic gradient predicted a
+			// fall that f contradicted in proportion to the step, the
+			// gradient is probably wrong (see variablyDimensioned10LBFGSCentralRiseTrend, which never
+			// reports that for differences); otherwise the search stalled
+			// below the step limit, or ran out of trials.
+			end := VariablyDimensioned10LBFGSCentralNoAcceptableStep
+			switch {
+			case found.rising:
+				end = VariablyDimensioned10LBFGSCentralNoDecrease
+			case found.end == variablyDimensioned10LBFGSCentralSearchTiny && canSettle:
+				calls, ok := variablyDimensioned10LBFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+				out.evaluations += calls
+				if !ok {
+					return best.ending(VariablyDimensioned10LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+				}
+				if !variablyDimensioned10LBFGSCentralFiniteVec(&g) {
+					return best.ending(VariablyDimensioned10LBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
+				}
+				stalled, confirmed = true, true
+				continue
+			case found.end == variablyDimensioned10LBFGSCentralSearchTiny:
+				end = VariablyDimensioned10LBFGSCentralStalled
 			}
-			return out
+			return best.ending(end, out.iterations, out.evaluations)
 		}
 		if !variablyDimensioned10LBFGSCentralFiniteVec(&xt) {
-			out.status = VariablyDimensioned10LBFGSCentralNoAcceptableStep // the accepted trial overflowed x
-			return out
+			return best.ending(VariablyDimensioned10LBFGSCentralNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
 		}
 		if !found.gradient {
 			if out.evaluations+variablyDimensioned10LBFGSCentralDerivativeCost > lim.Evaluations {
-				if found.value < fx { // keep a better point even without its gradient
-					out.x, out.f = xt, found.value
+				if found.value < best.f { // keep a better point even without its gradient
+					best.x, best.f, best.gradient = xt, found.value, math.NaN()
 					out.iterations++
 				}
-				return out
+				return best.ending(VariablyDimensioned10LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			variablyDimensioned10LBFGSCentralDerivative(&xt, found.value, &gt)
+			variablyDimensioned10LBFGSCentralDerivative(&xt, found.value, &gt, &diffs)
 			out.evaluations += variablyDimensioned10LBFGSCentralDerivativeCost
 		}
 		out.iterations++
 		variablyDimensioned10LBFGSCentralDifference(&s, &xt, &x)
 		variablyDimensioned10LBFGSCentralDifference(&y, &gt, &g)
-		x, fx, g = xt, found.value, gt
-		out.x, out.f = x, fx
+		if found.value > fx && found.value > start {
+			rises++
+		} else {
+			rises = 0
+		}
+		x, fx, g, confirmed = xt, found.value, gt, false
+		out.x, out.f, out.gradient = x, fx, math.NaN()
 		t, slope = found.step, now
 
 		if !variablyDimensioned10LBFGSCentralFiniteVec(&g) {
-			out.status = VariablyDimensioned10LBFGSCentralNonFiniteGradient
-			return out
+			if out.f < best.f {
+				best = out
+			}
+			return best.ending(VariablyDimensioned10LBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
 		}
 	}
 }
@@ -243,11 +343,19 @@ func variablyDimensioned10LBFGSCentralMinimize(x0 [10]float64, lim VariablyDimen
 // variablyDimensioned10LBFGSCentralOutcome is the kernel's report; the generated entry point copies it into
 // the spec's result type.
 type variablyDimensioned10LBFGSCentralOutcome struct {
-	x           [10]float64
-	f           float64
-	iterations  int
-	evaluations int
-	status      VariablyDimensioned10LBFGSCentralStatus
+	x             [10]float64
+	f             float64
+	gradient      float64 // the stop test's measure at x, error bound included; NaN when not known
+	gradientLimit float64 // the limit that measure was held to
+	iterations    int
+	evaluations   int
+	status        VariablyDimensioned10LBFGSCentralStatus
+}
+
+// ending is the best point seen, reported with the run's end and counts.
+func (o variablyDimensioned10LBFGSCentralOutcome) ending(end VariablyDimensioned10LBFGSCentralStatus, iterations, evaluations int) variablyDimensioned10LBFGSCentralOutcome {
+	o.status, o.iterations, o.evaluations = end, iterations, evaluations
+	return o
 }
 
 // variablyDimensioned10LBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
@@ -272,26 +380,81 @@ func variablyDimensioned10LBFGSCentralFiniteVec(x *[10]float64) bool {
 	return true
 }
 
-// variablyDimensioned10LBFGSCentralDerivative approximates the gradient by central differences,
+// variablyDimensioned10LBFGSCentralDifferences is what the difference gradients learn from the objective
+// at the start: for each coordinate i, the interval as a multiple of
+// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
+// forward differences, |f‴| for central ones). The analytic gradient
+// leaves it unused.
+type variablyDimensioned10LBFGSCentralDifferences struct {
+	ratio     [10]float64
+	curvature [10]float64
+	second    [10]float64 // |f″| along e_i, for the rounding floor of a stall (see variablyDimensioned10LBFGSCentralRoundingFloor)
+}
+
+// variablyDimensioned10LBFGSCentralCalibrate chooses each central-difference interval from the
+// third derivative along e_i, estimated at x with four probes at ±h̄ and
+// ±2h̄, h̄ = u^(1/4)·s, s = max(1, |x_i|):
 //
-//	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),  h_i = ∛u · max(1, |x_i|),
+//	f‴ ≈ (f(x + 2h̄eᵢ) − 2f(x + h̄eᵢ) + 2f(x − h̄eᵢ) − f(x − 2h̄eᵢ)) / (2h̄³),
+//	h_i  = ∛(3ε_A / |f‴|)
 //
-// with error O(h²) (Nocedal & Wright 2006, eq. 8.7 and §8.1). It costs
-// 2·dim objective calls; fx is not needed.
-func variablyDimensioned10LBFGSCentralDerivative(x *[10]float64, fx float64, g *[10]float64) {
+// the interval that minimizes the truncation error h²|f‴|/6 plus the
+// rounding error ε_A/h of a central difference (Nocedal & Wright 2006,
+// §8.1, with the third-derivative estimate of the forward interval's
+// procedure of Gill, Murray, Saunders & Wright 1983 carried one order
+// up), with ε_A from variablyDimensioned10LBFGSCentralNoiseLevel and the probes' slopes. An estimate below
+// its rounding noise 3ε_A/h̄³ is replaced by that noise, and h_i is kept
+// within [64u·s, h̄]. It costs four objective calls per unknown.
+func variablyDimensioned10LBFGSCentralCalibrate(x *[10]float64, fx float64, diffs *variablyDimensioned10LBFGSCentralDifferences, budget int) (int, bool) {
 	probe := *x
+	var slope [10]float64
+	scale := variablyDimensioned10LBFGSCentralAbs(fx)
+	quarter := variablyDimensioned10LBFGSCentralSquareRoot(variablyDimensioned10LBFGSCentralSquareRoot(variablyDimensioned10LBFGSCentralUnitRoundoff)) // u^(1/4)
 	for i := range probe {
+		if 4*(i+1) > budget {
+			return 4 * i, false
+		}
 		xi := probe[i]
-		h := variablyDimensioned10LBFGSCentralCentralScale * variablyDimensioned10LBFGSCentralLarger(1, variablyDimensioned10LBFGSCentralAbs(xi)) // N&W §8.1: h = ∛u·max(1,|x_i|)
-		up := xi + h
-		down := xi - h
-		probe[i] = up
-		fUp := VariablyDimensioned10(&probe)
-		probe[i] = down
-		fDown := VariablyDimensioned10(&probe)
-		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+		bar := quarter * variablyDimensioned10LBFGSCentralLarger(1, variablyDimensioned10LBFGSCentralAbs(xi))
+		var f [4]float64
+		for k, m := range [4]float64{2, 1, -1, -2} {
+			probe[i], _ = variablyDimensioned10LBFGSCentralProbeStep(xi, m*bar)
+			f[k] = VariablyDimensioned10(&probe)
+			scale = variablyDimensioned10LBFGSCentralLarger(scale, variablyDimensioned10LBFGSCentralMagnitude(f[k]))
+		}
 		probe[i] = xi
+		if variablyDimensioned10LBFGSCentralFinite(f[0]) && variablyDimensioned10LBFGSCentralFinite(f[1]) && variablyDimensioned10LBFGSCentralFinite(f[2]) && variablyDimensioned10LBFGSCentralFinite(f[3]) {
+			diffs.curvature[i] = variablyDimensioned10LBFGSCentralAbs(f[0]-2*f[1]+2*f[2]-f[3]) / (2 * bar * bar * bar)
+			diffs.second[i] = variablyDimensioned10LBFGSCentralAbs(f[1]-2*fx+f[2]) / (bar * bar)
+			slope[i] = (f[1] - f[2]) / (2 * bar)
+		}
 	}
+	noise := variablyDimensioned10LBFGSCentralNoiseLevel(x, scale, &slope)
+	for i := range probe {
+		s := variablyDimensioned10LBFGSCentralLarger(1, variablyDimensioned10LBFGSCentralAbs(probe[i]))
+		bar := quarter * s
+		third := variablyDimensioned10LBFGSCentralLarger(diffs.curvature[i], 3*noise/(bar*bar*bar))
+		h := bar
+		if third > 0 {
+			h = variablyDimensioned10LBFGSCentralCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+		}
+		diffs.ratio[i] = variablyDimensioned10LBFGSCentralClampBetween(h, 64*variablyDimensioned10LBFGSCentralUnitRoundoff*s, bar) / s
+		diffs.curvature[i] = third
+	}
+	return 4 * len(probe), true
+}
+
+// variablyDimensioned10LBFGSCentralAbs returns |v|.
+func variablyDimensioned10LBFGSCentralAbs(v float64) float64 {
+	if v < 0 {
+		return -v
+	}
+	return v
+}
+
+// variablyDimensioned10LBFGSCentralSquareRoot returns √v.
+func variablyDimensioned10LBFGSCentralSquareRoot(v float64) float64 {
+	return math.Sqrt(v)
 }
 
 // variablyDimensioned10LBFGSCentralLarger returns the larger of a and b, or a NaN among them. The builtin
@@ -304,12 +467,81 @@ func variablyDimensioned10LBFGSCentralLarger(a, b float64) float64 {
 	return b
 }
 
-// variablyDimensioned10LBFGSCentralAbs returns |v|.
-func variablyDimensioned10LBFGSCentralAbs(v float64) float64 {
-	if v < 0 {
-		return -v
+// variablyDimensioned10LBFGSCentralProbeStep returns x_i moved by h, and the step actually representable.
+func variablyDimensioned10LBFGSCentralProbeStep(xi, h float64) (float64, float64) {
+	moved := xi + h
+	return moved, moved - xi
+}
+
+// variablyDimensioned10LBFGSCentralMagnitude is |v| for a finite v and 0 otherwise: a probe that fell
+// outside the objective's domain says nothing about its rounding.
+func variablyDimensioned10LBFGSCentralMagnitude(v float64) float64 {
+	if !variablyDimensioned10LBFGSCentralFinite(v) {
+		return 0
+	}
+	return variablyDimensioned10LBFGSCentralAbs(v)
+}
+
+// variablyDimensioned10LBFGSCentralNoiseLevel is the absolute error assumed in a computed value fx of the
+// objective at x, where its gradient is about g:
+//
+//	ε_A = 4u·(|fx| + Σᵢ |gᵢ·xᵢ|),
+//
+// a few roundings of the result plus the change that rounding each xᵢ by
+// a relative u makes in f, which is what an objective computed with
+// cancellation inside (y − x² in Rosenbrock's valley) shows near a zero
+// minimum, where u·|f| alone vanishes (the first-order error of
+// evaluating f at a rounded x; the factor 4 is common practice; Gill,
+// Murray, Saunders & Wright 1983 leave ε_A to the user).
+func variablyDimensioned10LBFGSCentralNoiseLevel(x *[10]float64, fx float64, g *[10]float64) float64 {
+	sum := variablyDimensioned10LBFGSCentralAbs(fx)
+	for i := range x {
+		sum += variablyDimensioned10LBFGSCentralAbs(g[i] * x[i])
+	}
+	return 4 * variablyDimensioned10LBFGSCentralUnitRoundoff * sum
+}
+
+// variablyDimensioned10LBFGSCentralCubeRoot returns ∛v for v ≥ 0.
+func variablyDimensioned10LBFGSCentralCubeRoot(v float64) float64 {
+	return math.Cbrt(v)
+}
+
+// variablyDimensioned10LBFGSCentralClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func variablyDimensioned10LBFGSCentralClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
 	}
 	return v
+}
+
+// variablyDimensioned10LBFGSCentralDerivative approximates the gradient by central differences,
+//
+//	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),
+//
+// with the intervals variablyDimensioned10LBFGSCentralCalibrate chose, h_i = ratio_i·max(1, |x_i|)
+// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls; fx is
+// not needed.
+func variablyDimensioned10LBFGSCentralDerivative(x *[10]float64, fx float64, g *[10]float64, diffs *variablyDimensioned10LBFGSCentralDifferences) {
+	probe := *x
+	for i := range probe {
+		xi := probe[i]
+		h := diffs.ratio[i] * variablyDimensioned10LBFGSCentralLarger(1, variablyDimensioned10LBFGSCentralAbs(xi))
+		up, _ := variablyDimensioned10LBFGSCentralProbeStep(xi, h)
+		down, _ := variablyDimensioned10LBFGSCentralProbeStep(xi, -h)
+		probe[i] = up
+		fUp := VariablyDimensioned10(&probe)
+		probe[i] = down
+		fDown := VariablyDimensioned10(&probe)
+		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+		probe[i] = xi
+	}
 }
 
 // variablyDimensioned10LBFGSCentralDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
@@ -427,15 +659,67 @@ func variablyDimensioned10LBFGSCentralCurvatureSafe(s, y *[10]float64) bool {
 	return sy > 0 && (sy/variablyDimensioned10LBFGSCentralDot(s, s))*(sy/variablyDimensioned10LBFGSCentralDot(y, y)) > variablyDimensioned10LBFGSCentralUnitRoundoff
 }
 
-// variablyDimensioned10LBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
-func variablyDimensioned10LBFGSCentralMaxAbs(x *[10]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := variablyDimensioned10LBFGSCentralAbs(x[i]); a > m || a != a {
-			m = a
-		}
+// variablyDimensioned10LBFGSCentralGradientError bounds each central difference's error by twice its
+// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
+// in forwardError).
+func variablyDimensioned10LBFGSCentralGradientError(x *[10]float64, fx float64, g, e *[10]float64, diffs *variablyDimensioned10LBFGSCentralDifferences) {
+	noise := variablyDimensioned10LBFGSCentralNoiseLevel(x, fx, g)
+	for i := range e {
+		h := diffs.ratio[i] * variablyDimensioned10LBFGSCentralLarger(1, variablyDimensioned10LBFGSCentralAbs(x[i]))
+		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
 	}
-	return m
+}
+
+// variablyDimensioned10LBFGSCentralGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func variablyDimensioned10LBFGSCentralGradientMeasure(g, e, x *[10]float64, fx float64) (measure, floor float64) {
+	scale := variablyDimensioned10LBFGSCentralLarger(variablyDimensioned10LBFGSCentralAbs(fx), 1)
+	for i := range g {
+		w := variablyDimensioned10LBFGSCentralLarger(variablyDimensioned10LBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = variablyDimensioned10LBFGSCentralLarger(measure, (variablyDimensioned10LBFGSCentralAbs(g[i])+e[i])*w)
+		floor = variablyDimensioned10LBFGSCentralLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// variablyDimensioned10LBFGSCentralConfirmGradient recomputes a difference gradient at x before the run is
+// called converged there: it chooses the intervals again from the
+// curvature at x (calibrate), computes g with them and with twice them,
+// and bounds each component's error by the model (variablyDimensioned10LBFGSCentralGradientError) plus
+// three times the change the doubling made. That change measures what the
+// model can miss, truncation from curvature that varies and rounding
+// noise above 4u·|f|; as one sample of that noise it is tripled
+// (Richardson's idea of comparing two intervals; the factor is common
+// practice for a posteriori error estimates). It costs a calibration and two
+// gradients, and returns the calls spent and false when budget ran out
+// first.
+func variablyDimensioned10LBFGSCentralConfirmGradient(x *[10]float64, fx float64, g, e *[10]float64, diffs *variablyDimensioned10LBFGSCentralDifferences, budget int) (int, bool) {
+	calls, ok := variablyDimensioned10LBFGSCentralCalibrate(x, fx, diffs, budget)
+	if !ok || calls+2*variablyDimensioned10LBFGSCentralDerivativeCost > budget {
+		return calls, false
+	}
+	wide := *diffs
+	for i := range wide.ratio {
+		wide.ratio[i] *= 2
+	}
+	var doubled [10]float64
+	variablyDimensioned10LBFGSCentralDerivative(x, fx, g, diffs)
+	variablyDimensioned10LBFGSCentralDerivative(x, fx, &doubled, &wide)
+	variablyDimensioned10LBFGSCentralGradientError(x, fx, g, e, diffs)
+	for i := range e {
+		e[i] += 3 * variablyDimensioned10LBFGSCentralAbs(g[i]-doubled[i])
+	}
+	return calls + 2*variablyDimensioned10LBFGSCentralDerivativeCost, true
 }
 
 // variablyDimensioned10LBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
@@ -448,6 +732,43 @@ func variablyDimensioned10LBFGSCentralStepWithin(s, x *[10]float64, tol float64)
 		}
 	}
 	return true
+}
+
+// variablyDimensioned10LBFGSCentralSettle prepares the final verdict at a stall: with differences it
+// confirms the gradient (variablyDimensioned10LBFGSCentralConfirmGradient), then it adds to each error
+// bound the rounding floor of x (variablyDimensioned10LBFGSCentralRoundingFloor). It returns the objective
+// calls spent and false when budget ran out first.
+func variablyDimensioned10LBFGSCentralSettle(x *[10]float64, fx float64, g, e *[10]float64, diffs *variablyDimensioned10LBFGSCentralDifferences, budget int) (int, bool) {
+	calls := 0
+	if variablyDimensioned10LBFGSCentralDerivativeCost > 0 {
+		spent, ok := variablyDimensioned10LBFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
+	}
+	variablyDimensioned10LBFGSCentralRoundingFloor(x, g, e, diffs)
+	return calls, true
+}
+
+// variablyDimensioned10LBFGSCentralRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
+// that moving xᵢ by a few of its rounding units makes in gᵢ:
+// where no step the step test resolves decreases f, a gradient that small
+// is zero to the rounding of x (the resolution of x in floating point,
+// common practice). It is added only at a stall, so a gradient far above
+// it still ends the run as stalled.
+func variablyDimensioned10LBFGSCentralRoundingFloor(x, g, e *[10]float64, diffs *variablyDimensioned10LBFGSCentralDifferences) {
+	var h [10]float64
+	variablyDimensioned10LBFGSCentralDiagonalCurvature(x, g, diffs, &h)
+	for i := range e {
+		e[i] += 4 * variablyDimensioned10LBFGSCentralUnitRoundoff * variablyDimensioned10LBFGSCentralAbs(x[i]) * h[i]
+	}
+}
+
+// variablyDimensioned10LBFGSCentralDiagonalCurvature takes each |f″| along eᵢ from the differences' last
+// calibration, which variablyDimensioned10LBFGSCentralConfirmGradient has just made at x.
+func variablyDimensioned10LBFGSCentralDiagonalCurvature(x, g *[10]float64, diffs *variablyDimensioned10LBFGSCentralDifferences, h *[10]float64) {
+	*h = diffs.second
 }
 
 // variablyDimensioned10LBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
@@ -486,7 +807,7 @@ func variablyDimensioned10LBFGSCentralTinyStep(x, d *[10]float64, tol float64) f
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func variablyDimensioned10LBFGSCentralLineSearch(x *[10]float64, fx float64, d *[10]float64, slope, first, tiny float64, budget int, xt, gt *[10]float64) variablyDimensioned10LBFGSCentralLineResult {
+func variablyDimensioned10LBFGSCentralLineSearch(x *[10]float64, fx float64, d *[10]float64, slope, first, tiny float64, budget int, xt, gt *[10]float64, diffs *variablyDimensioned10LBFGSCentralDifferences) variablyDimensioned10LBFGSCentralLineResult {
 	low := variablyDimensioned10LBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high variablyDimensioned10LBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                                // ∇f at low, kept for accepting low from a collapsed bracket
@@ -518,7 +839,7 @@ func variablyDimensioned10LBFGSCentralLineSearch(x *[10]float64, fx float64, d *
 			if calls+variablyDimensioned10LBFGSCentralDerivativeCost > budget {
 				return variablyDimensioned10LBFGSCentralLineResult{calls: calls, end: variablyDimensioned10LBFGSCentralSearchOutOfBudget}
 			}
-			variablyDimensioned10LBFGSCentralDerivative(xt, current.value, gt)
+			variablyDimensioned10LBFGSCentralDerivative(xt, current.value, gt, diffs)
 			calls += variablyDimensioned10LBFGSCentralDerivativeCost
 			current.slope, current.hasSlope = variablyDimensioned10LBFGSCentralDot(gt, d), true
 			switch {
@@ -543,7 +864,7 @@ func variablyDimensioned10LBFGSCentralLineSearch(x *[10]float64, fx float64, d *
 	if low.step > 0 {
 		return variablyDimensioned10LBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
 	}
-	return variablyDimensioned10LBFGSCentralLineResult{calls: calls, end: variablyDimensioned10LBFGSCentralSearchExhausted}
+	return variablyDimensioned10LBFGSCentralLineResult{calls: calls, rising: trend.contradicts(), end: variablyDimensioned10LBFGSCentralSearchExhausted}
 }
 
 // variablyDimensioned10LBFGSCentralLineResult is what a line search reports to the kernel.
@@ -644,6 +965,7 @@ const (
 	variablyDimensioned10LBFGSCentralSearchExhausted                                                     // variablyDimensioned10LBFGSCentralStepTrials trials met none
 	variablyDimensioned10LBFGSCentralSearchOutOfBudget                                                   // the evaluation cap came first
 	variablyDimensioned10LBFGSCentralSearchTiny                                                          // every step longer than tiny failed to decrease f
+	variablyDimensioned10LBFGSCentralSearchDiverged                                                      // a fixed step's value overflowed
 )
 
 // variablyDimensioned10LBFGSCentralAcceptLow ends a Wolfe search with its best trial, which met sufficient
@@ -709,26 +1031,6 @@ func variablyDimensioned10LBFGSCentralModelMinimizer(a, b *variablyDimensioned10
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, variablyDimensioned10LBFGSCentralFinite(t)
-}
-
-// variablyDimensioned10LBFGSCentralSquareRoot returns √v.
-func variablyDimensioned10LBFGSCentralSquareRoot(v float64) float64 {
-	return math.Sqrt(v)
-}
-
-// variablyDimensioned10LBFGSCentralClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func variablyDimensioned10LBFGSCentralClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // variablyDimensioned10LBFGSCentralExpandTrial picks a larger trial after current met sufficient decrease

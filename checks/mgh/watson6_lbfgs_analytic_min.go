@@ -8,10 +8,10 @@ import "math"
 type Watson6LBFGSAnalyticStatus uint8
 
 const (
-	// Watson6LBFGSAnalyticGradientSmall: the largest gradient component fell to the gradient limit: converged.
+	// Watson6LBFGSAnalyticGradientSmall: the gradient test holds at X: its measure, with the differences' error bound when they are used, is at most the gradient limit: converged.
 	Watson6LBFGSAnalyticGradientSmall Watson6LBFGSAnalyticStatus = iota + 1
-	// Watson6LBFGSAnalyticStepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f: converged.
-	Watson6LBFGSAnalyticStepTiny
+	// Watson6LBFGSAnalyticStalled: the step test ended the run, or no step longer than the step limit decreased f, while the gradient test still fails: X is as far as the run could get, not a verified minimizer.
+	Watson6LBFGSAnalyticStalled
 	// Watson6LBFGSAnalyticOutOfIterations: the iteration limit came first.
 	Watson6LBFGSAnalyticOutOfIterations
 	// Watson6LBFGSAnalyticOutOfEvaluations: the next objective call would have exceeded the evaluation cap.
@@ -22,8 +22,10 @@ const (
 	Watson6LBFGSAnalyticNonFiniteStart
 	// Watson6LBFGSAnalyticNonFiniteGradient: a gradient component became NaN or ±Inf.
 	Watson6LBFGSAnalyticNonFiniteGradient
-	// Watson6LBFGSAnalyticNoDecrease: no step longer than the step limit decreased f, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test).
+	// Watson6LBFGSAnalyticNoDecrease: the line search found no acceptable step, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test).
 	Watson6LBFGSAnalyticNoDecrease
+	// Watson6LBFGSAnalyticDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
+	Watson6LBFGSAnalyticDiverged
 )
 
 // String describes the status in a few words.
@@ -31,8 +33,8 @@ func (s Watson6LBFGSAnalyticStatus) String() string {
 	switch s {
 	case Watson6LBFGSAnalyticGradientSmall:
 		return "gradient small"
-	case Watson6LBFGSAnalyticStepTiny:
-		return "step tiny"
+	case Watson6LBFGSAnalyticStalled:
+		return "stalled"
 	case Watson6LBFGSAnalyticOutOfIterations:
 		return "out of iterations"
 	case Watson6LBFGSAnalyticOutOfEvaluations:
@@ -45,28 +47,32 @@ func (s Watson6LBFGSAnalyticStatus) String() string {
 		return "non-finite gradient"
 	case Watson6LBFGSAnalyticNoDecrease:
 		return "no decrease"
+	case Watson6LBFGSAnalyticDiverged:
+		return "diverged"
 	default:
 		return "unknown status"
 	}
 }
 
-// Converged reports whether a convergence test, on the gradient or on the step, ended the run; limits, line-search failure and non-finite values are not convergence.
+// Converged reports whether the gradient test holds at X (Gradient ≤ GradientLimit in the result): only then is X a verified stationary point; a stall, the limits, line-search failure and non-finite values are not convergence.
 func (s Watson6LBFGSAnalyticStatus) Converged() bool {
-	return s == Watson6LBFGSAnalyticGradientSmall || s == Watson6LBFGSAnalyticStepTiny
+	return s == Watson6LBFGSAnalyticGradientSmall
 }
 
 // Watson6LBFGSAnalyticResult is where Watson6LBFGSAnalytic stopped and why.
 type Watson6LBFGSAnalyticResult struct {
-	X           [6]float64                 // the last accepted point, the best one found
-	F           float64                    // the objective at X
-	Iterations  int                        // accepted steps
-	Evaluations int                        // objective calls, finite differences included
-	Status      Watson6LBFGSAnalyticStatus // why the run stopped; check Status.Converged()
+	X             [6]float64                 // where the gradient test held, when converged; else the lowest point seen
+	F             float64                    // the objective at X
+	Gradient      float64                    // the gradient test's measure at X, the differences' error bound included; NaN when the run ended before the gradient at X was known
+	GradientLimit float64                    // the limit Gradient was held to: Limits.Gradient, raised with differences to ten times the measure of their error bound; converged runs have Gradient ≤ GradientLimit
+	Iterations    int                        // accepted steps
+	Evaluations   int                        // objective calls, finite differences included
+	Status        Watson6LBFGSAnalyticStatus // why the run stopped; check Status.Converged()
 }
 
 // Watson6LBFGSAnalyticLimits are the stop limits of one run. Pass them to Watson6LBFGSAnalyticWithLimits to change them at run time; Watson6LBFGSAnalyticDefaultLimits returns the spec's.
 type Watson6LBFGSAnalyticLimits struct {
-	Gradient    float64 // stop when the largest |∂f/∂xᵢ| is at most this
+	Gradient    float64 // stop, converged, when the gradient test's measure is at most this (with differences, at most ten times the measure of their error bound where that is larger)
 	Step        float64 // stop when every |Δxᵢ| is at most this·(|xᵢ| + 1)
 	Iterations  int     // most accepted steps
 	Evaluations int     // hard cap on objective calls, finite differences included; never exceeded
@@ -87,10 +93,11 @@ func Watson6LBFGSAnalyticDefaultLimits() Watson6LBFGSAnalyticLimits {
 // Direction lbfgs: limited-memory BFGS: the last `memory` pairs, two-loop recursion (2·memory·dim numbers).
 // Step rule wolfe: bracket and zoom until sufficient decrease and the curvature condition hold.
 // Derivative analytic: the user's own gradient function (spec key `gradient`); costs no objective calls.
+// Gradient test relative: max over i of (|∂f/∂xᵢ| + eᵢ)·max(|xᵢ|, 1)/max(|f(x)|, 1), eᵢ the error bound of differences (0 for an analytic gradient).
 // Constants: initial 1.0, c1 0.0001, c2 0.9, at most 48 trials per line search, memory 5 pairs.
-// Default stop: largest gradient component ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
+// Default stop: gradient measure ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
 //
-// Worst case: 200000 objective calls (the evaluation cap; the iteration limit alone would allow 240001). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
+// Worst case: 200000 objective calls (the evaluation cap; the iteration limit alone would allow 240049). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
 func Watson6LBFGSAnalytic(x0 [6]float64) Watson6LBFGSAnalyticResult {
 	return Watson6LBFGSAnalyticWithLimits(x0, Watson6LBFGSAnalyticDefaultLimits())
@@ -100,11 +107,13 @@ func Watson6LBFGSAnalytic(x0 [6]float64) Watson6LBFGSAnalyticResult {
 func Watson6LBFGSAnalyticWithLimits(x0 [6]float64, limits Watson6LBFGSAnalyticLimits) Watson6LBFGSAnalyticResult {
 	out := watson6LBFGSAnalyticMinimize(x0, limits)
 	return Watson6LBFGSAnalyticResult{
-		Evaluations: out.evaluations,
-		F:           out.f,
-		Iterations:  out.iterations,
-		Status:      out.status,
-		X:           out.x,
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
 	}
 }
 
@@ -122,22 +131,36 @@ const (
 
 // watson6LBFGSAnalyticMinimize runs the descent loop from x0 within lim:
 //
-//  1. stop when the largest gradient component is at most lim.Gradient;
+//  1. stop, converged, when the gradient measure (watson6LBFGSAnalyticGradientMeasure, error
+//     bound of differences included) is at most the limit: lim.Gradient,
+//     or three times the measure of the differences' error bound when that is
+//     larger, so that the limit can be met (the floor the test can see);
+//     differences confirm it first (watson6LBFGSAnalyticConfirmGradient);
 //  2. stop after lim.Iterations accepted steps;
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
-//  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged,
-//     unless f contradicts an analytic gradient: no decrease);
+//  4. search along d; stop when no trial is acceptable or only steps
+//     shorter than the step limit are left to try: stalled, or no
+//     decrease when f contradicts an analytic gradient (see watson6LBFGSAnalyticRiseTrend);
 //  5. move, refresh the gradient, let the direction learn from the step;
-//  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
+//  6. stop, stalled, when every |Δx_i| is at most lim.Step·(|x_i| + 1) while
+//     the gradient test still fails. At a stall the run settles first
+//     (settle): the error bound gains the rounding floor of x, with
+//     differences confirmed, and the limit rises to ten times the larger
+//     of lim.Gradient and the bound's measure; a gradient within that is
+//     as small as this point can show, and the run is converged with that
+//     limit, which it reports.
 //
-// Before every objective call it checks that lim.Evaluations leaves room
-// for it, so the cap is never exceeded. A NaN or ±Inf at the start or in a
+// Only step 1 is convergence: the first-order test holds at X. Before
+// every objective call it checks that lim.Evaluations leaves room for it,
+// so the cap is never exceeded. A NaN or ±Inf at the start or in a
 // gradient ends the run with its own status; a non-finite trial value is
-// rejected by the line search like any failed trial.
+// rejected by the line search like any failed trial. X is the best point
+// seen unless the run converged, which it did at X. A fixed step whose
+// value overflows, or that raised f above f(x0) at eight steps in a row,
+// ends the run as diverged (common practice for a divergence test).
 func watson6LBFGSAnalyticMinimize(x0 [6]float64, lim Watson6LBFGSAnalyticLimits) watson6LBFGSAnalyticOutcome {
-	out := watson6LBFGSAnalyticOutcome{x: x0, status: Watson6LBFGSAnalyticOutOfEvaluations}
+	out := watson6LBFGSAnalyticOutcome{x: x0, status: Watson6LBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
@@ -148,11 +171,14 @@ func watson6LBFGSAnalyticMinimize(x0 [6]float64, lim Watson6LBFGSAnalyticLimits)
 		out.status = Watson6LBFGSAnalyticNonFiniteStart
 		return out
 	}
-	if out.evaluations+watson6LBFGSAnalyticDerivativeCost > lim.Evaluations {
+	var diffs watson6LBFGSAnalyticDifferences
+	calls, ok := watson6LBFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
+	out.evaluations += calls
+	if !ok || out.evaluations+watson6LBFGSAnalyticDerivativeCost > lim.Evaluations {
 		return out
 	}
-	var g [6]float64
-	watson6LBFGSAnalyticDerivative(&x, fx, &g)
+	var g, e [6]float64
+	watson6LBFGSAnalyticDerivative(&x, fx, &g, &diffs)
 	out.evaluations += watson6LBFGSAnalyticDerivativeCost
 
 	if !watson6LBFGSAnalyticFiniteVec(&g) {
@@ -163,21 +189,76 @@ func watson6LBFGSAnalyticMinimize(x0 [6]float64, lim Watson6LBFGSAnalyticLimits)
 	dir.reset()
 	var d, xt, gt, s, y [6]float64
 	t, slope := float64(watson6LBFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
+	best := out                                                      // the lowest point seen, for runs that end unconverged
+	start, rises := fx, 0                                            // f(x0), and consecutive accepted steps that raised f above it
+	confirmed := false                                               // whether g and e at x come from watson6LBFGSAnalyticConfirmGradient
+	stalled := false                                                 // whether the run can make no more progress at x
+	retried := -1                                                    // the iteration whose stall was retried with recalibrated differences
 	for {
-		if watson6LBFGSAnalyticMaxAbs(&g) <= lim.Gradient {
+		if !confirmed {
+			watson6LBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
+		}
+		measure, floor := watson6LBFGSAnalyticGradientMeasure(&g, &e, &x, fx)
+		out.gradient, out.gradientLimit = measure, watson6LBFGSAnalyticLarger(lim.Gradient, 3*floor)
+		if stalled {
+			// No step can make progress here: the gradient is as small as
+			// this point shows it, within ten times the limit or the floor.
+			out.gradientLimit = 10 * watson6LBFGSAnalyticLarger(lim.Gradient, floor)
+		}
+		if out.f <= best.f {
+			best = out
+		}
+		if measure <= out.gradientLimit && (watson6LBFGSAnalyticDerivativeCost == 0 || confirmed) {
 			out.status = Watson6LBFGSAnalyticGradientSmall
 			return out
 		}
-		if out.iterations > 0 {
+		if measure <= out.gradientLimit {
+			// Differences pass the test: confirm it with intervals chosen
+			// here and an error measured rather than modelled.
+			calls, ok := watson6LBFGSAnalyticConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(Watson6LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !watson6LBFGSAnalyticFiniteVec(&g) {
+				return best.ending(Watson6LBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			confirmed = true
+			continue
+		}
+		if stalled {
+			// Settled and still above the limit: stalled, unless
+			// differences, whose intervals were just chosen here, can
+			// search once more with the better gradient.
+			if watson6LBFGSAnalyticDerivativeCost == 0 {
+				return best.ending(Watson6LBFGSAnalyticStalled, out.iterations, out.evaluations)
+			}
+			stalled, retried = false, out.iterations
+		}
+		// At a stall, settle first: the run is converged if the gradient
+		// is zero to the rounding of x (and, with differences, to their
+		// accuracy, confirmed); see settle.
+		canSettle := retried != out.iterations
+		if out.iterations > 0 && canSettle {
 			if watson6LBFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				out.status = Watson6LBFGSAnalyticStepTiny
-				return out
+				calls, ok := watson6LBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+				out.evaluations += calls
+				if !ok {
+					return best.ending(Watson6LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+				}
+				if !watson6LBFGSAnalyticFiniteVec(&g) {
+					return best.ending(Watson6LBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+				}
+				stalled, confirmed = true, true
+				continue
+			}
+			if rises >= 8 {
+				return best.ending(Watson6LBFGSAnalyticDiverged, out.iterations, out.evaluations)
 			}
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
-			out.status = Watson6LBFGSAnalyticOutOfIterations
-			return out
+			return best.ending(Watson6LBFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
 		}
 		dir.compute(&g, &d)
 		now := watson6LBFGSAnalyticDot(&g, &d)
@@ -191,50 +272,70 @@ func watson6LBFGSAnalyticMinimize(x0 [6]float64, lim Watson6LBFGSAnalyticLimits)
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := watson6LBFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := watson6LBFGSAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt)
+		found := watson6LBFGSAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case watson6LBFGSAnalyticSearchOutOfBudget:
-			return out
-		case watson6LBFGSAnalyticSearchExhausted:
-			out.status = Watson6LBFGSAnalyticNoAcceptableStep
-			return out
-		case watson6LBFGSAnalyticSearchTiny:
-			// Converged to the step limit: no step the step test would
-			// reject decreases f. Not so when an analytic gradient is
-			// contradicted by f rising in proportion to the step (see
-			// watson6LBFGSAnalyticRiseTrend, which never reports that for differences).
-			out.status = Watson6LBFGSAnalyticStepTiny
-			if found.rising {
-				out.status = Watson6LBFGSAnalyticNoDecrease
+			return best.ending(Watson6LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+		case watson6LBFGSAnalyticSearchDiverged:
+			return best.ending(Watson6LBFGSAnalyticDiverged, out.iterations, out.evaluations)
+		case watson6LBFGSAnalyticSearchExhausted, watson6LBFGSAnalyticSearchTiny:
+			// No acceptable step. When an analytic gradient predicted a
+			// fall that f contradicted in proportion to the step, the
+			// gradient is probably wrong (see watson6LBFGSAnalyticRiseTrend, which never
+			// reports that for differences); otherwise the search stalled
+			// below the step limit, or ran out of trials.
+			end := Watson6LBFGSAnalyticNoAcceptableStep
+			switch {
+			case found.rising:
+				end = Watson6LBFGSAnalyticNoDecrease
+			case found.end == watson6LBFGSAnalyticSearchTiny && canSettle:
+				calls, ok := watson6LBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+				out.evaluations += calls
+				if !ok {
+					return best.ending(Watson6LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+				}
+				if !watson6LBFGSAnalyticFiniteVec(&g) {
+					return best.ending(Watson6LBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+				}
+				stalled, confirmed = true, true
+				continue
+			case found.end == watson6LBFGSAnalyticSearchTiny:
+				end = Watson6LBFGSAnalyticStalled
 			}
-			return out
+			return best.ending(end, out.iterations, out.evaluations)
 		}
 		if !watson6LBFGSAnalyticFiniteVec(&xt) {
-			out.status = Watson6LBFGSAnalyticNoAcceptableStep // the accepted trial overflowed x
-			return out
+			return best.ending(Watson6LBFGSAnalyticNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
 		}
 		if !found.gradient {
 			if out.evaluations+watson6LBFGSAnalyticDerivativeCost > lim.Evaluations {
-				if found.value < fx { // keep a better point even without its gradient
-					out.x, out.f = xt, found.value
+				if found.value < best.f { // keep a better point even without its gradient
+					best.x, best.f, best.gradient = xt, found.value, math.NaN()
 					out.iterations++
 				}
-				return out
+				return best.ending(Watson6LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			watson6LBFGSAnalyticDerivative(&xt, found.value, &gt)
+			watson6LBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
 			out.evaluations += watson6LBFGSAnalyticDerivativeCost
 		}
 		out.iterations++
 		watson6LBFGSAnalyticDifference(&s, &xt, &x)
 		watson6LBFGSAnalyticDifference(&y, &gt, &g)
-		x, fx, g = xt, found.value, gt
-		out.x, out.f = x, fx
+		if found.value > fx && found.value > start {
+			rises++
+		} else {
+			rises = 0
+		}
+		x, fx, g, confirmed = xt, found.value, gt, false
+		out.x, out.f, out.gradient = x, fx, math.NaN()
 		t, slope = found.step, now
 
 		if !watson6LBFGSAnalyticFiniteVec(&g) {
-			out.status = Watson6LBFGSAnalyticNonFiniteGradient
-			return out
+			if out.f < best.f {
+				best = out
+			}
+			return best.ending(Watson6LBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
 		}
 	}
 }
@@ -242,11 +343,19 @@ func watson6LBFGSAnalyticMinimize(x0 [6]float64, lim Watson6LBFGSAnalyticLimits)
 // watson6LBFGSAnalyticOutcome is the kernel's report; the generated entry point copies it into
 // the spec's result type.
 type watson6LBFGSAnalyticOutcome struct {
-	x           [6]float64
-	f           float64
-	iterations  int
-	evaluations int
-	status      Watson6LBFGSAnalyticStatus
+	x             [6]float64
+	f             float64
+	gradient      float64 // the stop test's measure at x, error bound included; NaN when not known
+	gradientLimit float64 // the limit that measure was held to
+	iterations    int
+	evaluations   int
+	status        Watson6LBFGSAnalyticStatus
+}
+
+// ending is the best point seen, reported with the run's end and counts.
+func (o watson6LBFGSAnalyticOutcome) ending(end Watson6LBFGSAnalyticStatus, iterations, evaluations int) watson6LBFGSAnalyticOutcome {
+	o.status, o.iterations, o.evaluations = end, iterations, evaluations
+	return o
 }
 
 // watson6LBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
@@ -271,8 +380,24 @@ func watson6LBFGSAnalyticFiniteVec(x *[6]float64) bool {
 	return true
 }
 
+// watson6LBFGSAnalyticDifferences is what the difference gradients learn from the objective
+// at the start: for each coordinate i, the interval as a multiple of
+// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
+// forward differences, |f‴| for central ones). The analytic gradient
+// leaves it unused.
+type watson6LBFGSAnalyticDifferences struct {
+	ratio     [6]float64
+	curvature [6]float64
+	second    [6]float64 // |f″| along e_i, for the rounding floor of a stall (see watson6LBFGSAnalyticRoundingFloor)
+}
+
+// watson6LBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
+func watson6LBFGSAnalyticCalibrate(x *[6]float64, fx float64, diffs *watson6LBFGSAnalyticDifferences, budget int) (int, bool) {
+	return 0, true
+}
+
 // watson6LBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func watson6LBFGSAnalyticDerivative(x *[6]float64, fx float64, g *[6]float64) {
+func watson6LBFGSAnalyticDerivative(x *[6]float64, fx float64, g *[6]float64, diffs *watson6LBFGSAnalyticDifferences) {
 	Watson6Grad(x, g)
 }
 
@@ -391,15 +516,43 @@ func watson6LBFGSAnalyticCurvatureSafe(s, y *[6]float64) bool {
 	return sy > 0 && (sy/watson6LBFGSAnalyticDot(s, s))*(sy/watson6LBFGSAnalyticDot(y, y)) > watson6LBFGSAnalyticUnitRoundoff
 }
 
-// watson6LBFGSAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
-func watson6LBFGSAnalyticMaxAbs(x *[6]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := watson6LBFGSAnalyticAbs(x[i]); a > m || a != a {
-			m = a
-		}
+// watson6LBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func watson6LBFGSAnalyticGradientError(x *[6]float64, fx float64, g, e *[6]float64, diffs *watson6LBFGSAnalyticDifferences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return m
+}
+
+// watson6LBFGSAnalyticGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func watson6LBFGSAnalyticGradientMeasure(g, e, x *[6]float64, fx float64) (measure, floor float64) {
+	scale := watson6LBFGSAnalyticLarger(watson6LBFGSAnalyticAbs(fx), 1)
+	for i := range g {
+		w := watson6LBFGSAnalyticLarger(watson6LBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = watson6LBFGSAnalyticLarger(measure, (watson6LBFGSAnalyticAbs(g[i])+e[i])*w)
+		floor = watson6LBFGSAnalyticLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// watson6LBFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func watson6LBFGSAnalyticLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
 }
 
 // watson6LBFGSAnalyticAbs returns |v|.
@@ -408,6 +561,36 @@ func watson6LBFGSAnalyticAbs(v float64) float64 {
 		return -v
 	}
 	return v
+}
+
+// watson6LBFGSAnalyticConfirmGradient recomputes a difference gradient at x before the run is
+// called converged there: it chooses the intervals again from the
+// curvature at x (calibrate), computes g with them and with twice them,
+// and bounds each component's error by the model (watson6LBFGSAnalyticGradientError) plus
+// three times the change the doubling made. That change measures what the
+// model can miss, truncation from curvature that varies and rounding
+// noise above 4u·|f|; as one sample of that noise it is tripled
+// (Richardson's idea of comparing two intervals; the factor is common
+// practice for a posteriori error estimates). It costs a calibration and two
+// gradients, and returns the calls spent and false when budget ran out
+// first.
+func watson6LBFGSAnalyticConfirmGradient(x *[6]float64, fx float64, g, e *[6]float64, diffs *watson6LBFGSAnalyticDifferences, budget int) (int, bool) {
+	calls, ok := watson6LBFGSAnalyticCalibrate(x, fx, diffs, budget)
+	if !ok || calls+2*watson6LBFGSAnalyticDerivativeCost > budget {
+		return calls, false
+	}
+	wide := *diffs
+	for i := range wide.ratio {
+		wide.ratio[i] *= 2
+	}
+	var doubled [6]float64
+	watson6LBFGSAnalyticDerivative(x, fx, g, diffs)
+	watson6LBFGSAnalyticDerivative(x, fx, &doubled, &wide)
+	watson6LBFGSAnalyticGradientError(x, fx, g, e, diffs)
+	for i := range e {
+		e[i] += 3 * watson6LBFGSAnalyticAbs(g[i]-doubled[i])
+	}
+	return calls + 2*watson6LBFGSAnalyticDerivativeCost, true
 }
 
 // watson6LBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
@@ -420,6 +603,65 @@ func watson6LBFGSAnalyticStepWithin(s, x *[6]float64, tol float64) bool {
 		}
 	}
 	return true
+}
+
+// watson6LBFGSAnalyticSettle prepares the final verdict at a stall: with differences it
+// confirms the gradient (watson6LBFGSAnalyticConfirmGradient), then it adds to each error
+// bound the rounding floor of x (watson6LBFGSAnalyticRoundingFloor). It returns the objective
+// calls spent and false when budget ran out first.
+func watson6LBFGSAnalyticSettle(x *[6]float64, fx float64, g, e *[6]float64, diffs *watson6LBFGSAnalyticDifferences, budget int) (int, bool) {
+	calls := 0
+	if watson6LBFGSAnalyticDerivativeCost > 0 {
+		spent, ok := watson6LBFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
+	}
+	watson6LBFGSAnalyticRoundingFloor(x, g, e, diffs)
+	return calls, true
+}
+
+// watson6LBFGSAnalyticRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
+// that moving xᵢ by a few of its rounding units makes in gᵢ:
+// where no step the step test resolves decreases f, a gradient that small
+// is zero to the rounding of x (the resolution of x in floating point,
+// common practice). It is added only at a stall, so a gradient far above
+// it still ends the run as stalled.
+func watson6LBFGSAnalyticRoundingFloor(x, g, e *[6]float64, diffs *watson6LBFGSAnalyticDifferences) {
+	var h [6]float64
+	watson6LBFGSAnalyticDiagonalCurvature(x, g, diffs, &h)
+	for i := range e {
+		e[i] += 4 * watson6LBFGSAnalyticUnitRoundoff * watson6LBFGSAnalyticAbs(x[i]) * h[i]
+	}
+}
+
+// watson6LBFGSAnalyticDiagonalCurvature estimates each |∂²f/∂xᵢ²| from the analytic gradient
+// at x + δᵢeᵢ, δᵢ = √u·max(1, |xᵢ|): dim gradient calls and no objective
+// call (a forward difference of the gradient, Nocedal & Wright 2006,
+// §8.1).
+func watson6LBFGSAnalyticDiagonalCurvature(x, g *[6]float64, diffs *watson6LBFGSAnalyticDifferences, h *[6]float64) {
+	probe := *x
+	var moved [6]float64
+	for i := range probe {
+		xi := probe[i]
+		up, delta := watson6LBFGSAnalyticProbeStep(xi, watson6LBFGSAnalyticSquareRoot(watson6LBFGSAnalyticUnitRoundoff)*watson6LBFGSAnalyticLarger(1, watson6LBFGSAnalyticAbs(xi)))
+		probe[i] = up
+		Watson6Grad(&probe, &moved)
+		h[i] = watson6LBFGSAnalyticAbs(moved[i]-g[i]) / delta
+		probe[i] = xi
+	}
+}
+
+// watson6LBFGSAnalyticProbeStep returns x_i moved by h, and the step actually representable.
+func watson6LBFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
+	moved := xi + h
+	return moved, moved - xi
+}
+
+// watson6LBFGSAnalyticSquareRoot returns √v.
+func watson6LBFGSAnalyticSquareRoot(v float64) float64 {
+	return math.Sqrt(v)
 }
 
 // watson6LBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
@@ -458,7 +700,7 @@ func watson6LBFGSAnalyticTinyStep(x, d *[6]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func watson6LBFGSAnalyticLineSearch(x *[6]float64, fx float64, d *[6]float64, slope, first, tiny float64, budget int, xt, gt *[6]float64) watson6LBFGSAnalyticLineResult {
+func watson6LBFGSAnalyticLineSearch(x *[6]float64, fx float64, d *[6]float64, slope, first, tiny float64, budget int, xt, gt *[6]float64, diffs *watson6LBFGSAnalyticDifferences) watson6LBFGSAnalyticLineResult {
 	low := watson6LBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high watson6LBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [6]float64                                                    // ∇f at low, kept for accepting low from a collapsed bracket
@@ -490,7 +732,7 @@ func watson6LBFGSAnalyticLineSearch(x *[6]float64, fx float64, d *[6]float64, sl
 			if calls+watson6LBFGSAnalyticDerivativeCost > budget {
 				return watson6LBFGSAnalyticLineResult{calls: calls, end: watson6LBFGSAnalyticSearchOutOfBudget}
 			}
-			watson6LBFGSAnalyticDerivative(xt, current.value, gt)
+			watson6LBFGSAnalyticDerivative(xt, current.value, gt, diffs)
 			calls += watson6LBFGSAnalyticDerivativeCost
 			current.slope, current.hasSlope = watson6LBFGSAnalyticDot(gt, d), true
 			switch {
@@ -515,7 +757,7 @@ func watson6LBFGSAnalyticLineSearch(x *[6]float64, fx float64, d *[6]float64, sl
 	if low.step > 0 {
 		return watson6LBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
 	}
-	return watson6LBFGSAnalyticLineResult{calls: calls, end: watson6LBFGSAnalyticSearchExhausted}
+	return watson6LBFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: watson6LBFGSAnalyticSearchExhausted}
 }
 
 // watson6LBFGSAnalyticLineResult is what a line search reports to the kernel.
@@ -616,6 +858,7 @@ const (
 	watson6LBFGSAnalyticSearchExhausted                                        // watson6LBFGSAnalyticStepTrials trials met none
 	watson6LBFGSAnalyticSearchOutOfBudget                                      // the evaluation cap came first
 	watson6LBFGSAnalyticSearchTiny                                             // every step longer than tiny failed to decrease f
+	watson6LBFGSAnalyticSearchDiverged                                         // a fixed step's value overflowed
 )
 
 // watson6LBFGSAnalyticAcceptLow ends a Wolfe search with its best trial, which met sufficient
@@ -681,11 +924,6 @@ func watson6LBFGSAnalyticModelMinimizer(a, b *watson6LBFGSAnalyticLinePoint) (t 
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, watson6LBFGSAnalyticFinite(t)
-}
-
-// watson6LBFGSAnalyticSquareRoot returns √v.
-func watson6LBFGSAnalyticSquareRoot(v float64) float64 {
-	return math.Sqrt(v)
 }
 
 // watson6LBFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in

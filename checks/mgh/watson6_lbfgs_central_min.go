@@ -8,10 +8,10 @@ import "math"
 type Watson6LBFGSCentralStatus uint8
 
 const (
-	// Watson6LBFGSCentralGradientSmall: the largest gradient component fell to the gradient limit: converged.
+	// Watson6LBFGSCentralGradientSmall: the gradient test holds at X: its measure, with the differences' error bound when they are used, is at most the gradient limit: converged.
 	Watson6LBFGSCentralGradientSmall Watson6LBFGSCentralStatus = iota + 1
-	// Watson6LBFGSCentralStepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f: converged.
-	Watson6LBFGSCentralStepTiny
+	// Watson6LBFGSCentralStalled: the step test ended the run, or no step longer than the step limit decreased f, while the gradient test still fails: X is as far as the run could get, not a verified minimizer.
+	Watson6LBFGSCentralStalled
 	// Watson6LBFGSCentralOutOfIterations: the iteration limit came first.
 	Watson6LBFGSCentralOutOfIterations
 	// Watson6LBFGSCentralOutOfEvaluations: the next objective call would have exceeded the evaluation cap.
@@ -22,8 +22,10 @@ const (
 	Watson6LBFGSCentralNonFiniteStart
 	// Watson6LBFGSCentralNonFiniteGradient: a gradient component became NaN or ±Inf.
 	Watson6LBFGSCentralNonFiniteGradient
-	// Watson6LBFGSCentralNoDecrease: no step longer than the step limit decreased f, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test).
+	// Watson6LBFGSCentralNoDecrease: the line search found no acceptable step, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test).
 	Watson6LBFGSCentralNoDecrease
+	// Watson6LBFGSCentralDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
+	Watson6LBFGSCentralDiverged
 )
 
 // String describes the status in a few words.
@@ -31,8 +33,8 @@ func (s Watson6LBFGSCentralStatus) String() string {
 	switch s {
 	case Watson6LBFGSCentralGradientSmall:
 		return "gradient small"
-	case Watson6LBFGSCentralStepTiny:
-		return "step tiny"
+	case Watson6LBFGSCentralStalled:
+		return "stalled"
 	case Watson6LBFGSCentralOutOfIterations:
 		return "out of iterations"
 	case Watson6LBFGSCentralOutOfEvaluations:
@@ -45,28 +47,32 @@ func (s Watson6LBFGSCentralStatus) String() string {
 		return "non-finite gradient"
 	case Watson6LBFGSCentralNoDecrease:
 		return "no decrease"
+	case Watson6LBFGSCentralDiverged:
+		return "diverged"
 	default:
 		return "unknown status"
 	}
 }
 
-// Converged reports whether a convergence test, on the gradient or on the step, ended the run; limits, line-search failure and non-finite values are not convergence.
+// Converged reports whether the gradient test holds at X (Gradient ≤ GradientLimit in the result): only then is X a verified stationary point; a stall, the limits, line-search failure and non-finite values are not convergence.
 func (s Watson6LBFGSCentralStatus) Converged() bool {
-	return s == Watson6LBFGSCentralGradientSmall || s == Watson6LBFGSCentralStepTiny
+	return s == Watson6LBFGSCentralGradientSmall
 }
 
 // Watson6LBFGSCentralResult is where Watson6LBFGSCentral stopped and why.
 type Watson6LBFGSCentralResult struct {
-	X           [6]float64                // the last accepted point, the best one found
-	F           float64                   // the objective at X
-	Iterations  int                       // accepted steps
-	Evaluations int                       // objective calls, finite differences included
-	Status      Watson6LBFGSCentralStatus // why the run stopped; check Status.Converged()
+	X             [6]float64                // where the gradient test held, when converged; else the lowest point seen
+	F             float64                   // the objective at X
+	Gradient      float64                   // the gradient test's measure at X, the differences' error bound included; NaN when the run ended before the gradient at X was known
+	GradientLimit float64                   // the limit Gradient was held to: Limits.Gradient, raised with differences to ten times the measure of their error bound; converged runs have Gradient ≤ GradientLimit
+	Iterations    int                       // accepted steps
+	Evaluations   int                       // objective calls, finite differences included
+	Status        Watson6LBFGSCentralStatus // why the run stopped; check Status.Converged()
 }
 
 // Watson6LBFGSCentralLimits are the stop limits of one run. Pass them to Watson6LBFGSCentralWithLimits to change them at run time; Watson6LBFGSCentralDefaultLimits returns the spec's.
 type Watson6LBFGSCentralLimits struct {
-	Gradient    float64 // stop when the largest |∂f/∂xᵢ| is at most this
+	Gradient    float64 // stop, converged, when the gradient test's measure is at most this (with differences, at most ten times the measure of their error bound where that is larger)
 	Step        float64 // stop when every |Δxᵢ| is at most this·(|xᵢ| + 1)
 	Iterations  int     // most accepted steps
 	Evaluations int     // hard cap on objective calls, finite differences included; never exceeded
@@ -86,11 +92,12 @@ func Watson6LBFGSCentralDefaultLimits() Watson6LBFGSCentralLimits {
 //
 // Direction lbfgs: limited-memory BFGS: the last `memory` pairs, two-loop recursion (2·memory·dim numbers).
 // Step rule wolfe: bracket and zoom until sufficient decrease and the curvature condition hold.
-// Derivative central: central differences: 2·dim objective calls per gradient, error O(u^(2/3)).
+// Derivative central: central differences: 2·dim objective calls per gradient, intervals from the objective's curvature, error O(u^(2/3)).
+// Gradient test relative: max over i of (|∂f/∂xᵢ| + eᵢ)·max(|xᵢ|, 1)/max(|f(x)|, 1), eᵢ the error bound of differences (0 for an analytic gradient).
 // Constants: initial 1.0, c1 0.0001, c2 0.9, at most 48 trials per line search, memory 5 pairs.
-// Default stop: largest gradient component ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
+// Default stop: gradient measure ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
 //
-// Worst case: 200000 objective calls, 12 of them per gradient (the evaluation cap; the iteration limit alone would allow 3120013). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
+// Worst case: 200000 objective calls, 12 of them per gradient and 24 per choice of the difference intervals (at the start and before each convergence is confirmed) (the evaluation cap; the iteration limit alone would allow 3360709). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
 func Watson6LBFGSCentral(x0 [6]float64) Watson6LBFGSCentralResult {
 	return Watson6LBFGSCentralWithLimits(x0, Watson6LBFGSCentralDefaultLimits())
@@ -100,11 +107,13 @@ func Watson6LBFGSCentral(x0 [6]float64) Watson6LBFGSCentralResult {
 func Watson6LBFGSCentralWithLimits(x0 [6]float64, limits Watson6LBFGSCentralLimits) Watson6LBFGSCentralResult {
 	out := watson6LBFGSCentralMinimize(x0, limits)
 	return Watson6LBFGSCentralResult{
-		Evaluations: out.evaluations,
-		F:           out.f,
-		Iterations:  out.iterations,
-		Status:      out.status,
-		X:           out.x,
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
 	}
 }
 
@@ -118,27 +127,40 @@ const (
 	watson6LBFGSCentralDerivativeCost = 12                     // objective calls per gradient
 	watson6LBFGSCentralUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
 	watson6LBFGSCentralLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
-	watson6LBFGSCentralCentralScale   = 4.806217383937352e-06  // ∛u, central-difference step scale (Nocedal & Wright 2006, §8.1)
 )
 
 // watson6LBFGSCentralMinimize runs the descent loop from x0 within lim:
 //
-//  1. stop when the largest gradient component is at most lim.Gradient;
+//  1. stop, converged, when the gradient measure (watson6LBFGSCentralGradientMeasure, error
+//     bound of differences included) is at most the limit: lim.Gradient,
+//     or three times the measure of the differences' error bound when that is
+//     larger, so that the limit can be met (the floor the test can see);
+//     differences confirm it first (watson6LBFGSCentralConfirmGradient);
 //  2. stop after lim.Iterations accepted steps;
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
-//  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged,
-//     unless f contradicts an analytic gradient: no decrease);
+//  4. search along d; stop when no trial is acceptable or only steps
+//     shorter than the step limit are left to try: stalled, or no
+//     decrease when f contradicts an analytic gradient (see watson6LBFGSCentralRiseTrend);
 //  5. move, refresh the gradient, let the direction learn from the step;
-//  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
+//  6. stop, stalled, when every |Δx_i| is at most lim.Step·(|x_i| + 1) while
+//     the gradient test still fails. At a stall the run settles first
+//     (settle): the error bound gains the rounding floor of x, with
+//     differences confirmed, and the limit rises to ten times the larger
+//     of lim.Gradient and the bound's measure; a gradient within that is
+//     as small as this point can show, and the run is converged with that
+//     limit, which it reports.
 //
-// Before every objective call it checks that lim.Evaluations leaves room
-// for it, so the cap is never exceeded. A NaN or ±Inf at the start or in a
+// Only step 1 is convergence: the first-order test holds at X. Before
+// every objective call it checks that lim.Evaluations leaves room for it,
+// so the cap is never exceeded. A NaN or ±Inf at the start or in a
 // gradient ends the run with its own status; a non-finite trial value is
-// rejected by the line search like any failed trial.
+// rejected by the line search like any failed trial. X is the best point
+// seen unless the run converged, which it did at X. A fixed step whose
+// value overflows, or that raised f above f(x0) at eight steps in a row,
+// ends the run as diverged (common practice for a divergence test).
 func watson6LBFGSCentralMinimize(x0 [6]float64, lim Watson6LBFGSCentralLimits) watson6LBFGSCentralOutcome {
-	out := watson6LBFGSCentralOutcome{x: x0, status: Watson6LBFGSCentralOutOfEvaluations}
+	out := watson6LBFGSCentralOutcome{x: x0, status: Watson6LBFGSCentralOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
@@ -149,11 +171,14 @@ func watson6LBFGSCentralMinimize(x0 [6]float64, lim Watson6LBFGSCentralLimits) w
 		out.status = Watson6LBFGSCentralNonFiniteStart
 		return out
 	}
-	if out.evaluations+watson6LBFGSCentralDerivativeCost > lim.Evaluations {
+	var diffs watson6LBFGSCentralDifferences
+	calls, ok := watson6LBFGSCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
+	out.evaluations += calls
+	if !ok || out.evaluations+watson6LBFGSCentralDerivativeCost > lim.Evaluations {
 		return out
 	}
-	var g [6]float64
-	watson6LBFGSCentralDerivative(&x, fx, &g)
+	var g, e [6]float64
+	watson6LBFGSCentralDerivative(&x, fx, &g, &diffs)
 	out.evaluations += watson6LBFGSCentralDerivativeCost
 
 	if !watson6LBFGSCentralFiniteVec(&g) {
@@ -164,21 +189,76 @@ func watson6LBFGSCentralMinimize(x0 [6]float64, lim Watson6LBFGSCentralLimits) w
 	dir.reset()
 	var d, xt, gt, s, y [6]float64
 	t, slope := float64(watson6LBFGSCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
+	best := out                                                     // the lowest point seen, for runs that end unconverged
+	start, rises := fx, 0                                           // f(x0), and consecutive accepted steps that raised f above it
+	confirmed := false                                              // whether g and e at x come from watson6LBFGSCentralConfirmGradient
+	stalled := false                                                // whether the run can make no more progress at x
+	retried := -1                                                   // the iteration whose stall was retried with recalibrated differences
 	for {
-		if watson6LBFGSCentralMaxAbs(&g) <= lim.Gradient {
+		if !confirmed {
+			watson6LBFGSCentralGradientError(&x, fx, &g, &e, &diffs)
+		}
+		measure, floor := watson6LBFGSCentralGradientMeasure(&g, &e, &x, fx)
+		out.gradient, out.gradientLimit = measure, watson6LBFGSCentralLarger(lim.Gradient, 3*floor)
+		if stalled {
+			// No step can make progress here: the gradient is as small as
+			// this point shows it, within ten times the limit or the floor.
+			out.gradientLimit = 10 * watson6LBFGSCentralLarger(lim.Gradient, floor)
+		}
+		if out.f <= best.f {
+			best = out
+		}
+		if measure <= out.gradientLimit && (watson6LBFGSCentralDerivativeCost == 0 || confirmed) {
 			out.status = Watson6LBFGSCentralGradientSmall
 			return out
 		}
-		if out.iterations > 0 {
+		if measure <= out.gradientLimit {
+			// Differences pass the test: confirm it with intervals chosen
+			// here and an error measured rather than modelled.
+			calls, ok := watson6LBFGSCentralConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(Watson6LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !watson6LBFGSCentralFiniteVec(&g) {
+				return best.ending(Watson6LBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			confirmed = true
+			continue
+		}
+		if stalled {
+			// Settled and still above the limit: stalled, unless
+			// differences, whose intervals were just chosen here, can
+			// search once more with the better gradient.
+			if watson6LBFGSCentralDerivativeCost == 0 {
+				return best.ending(Watson6LBFGSCentralStalled, out.iterations, out.evaluations)
+			}
+			stalled, retried = false, out.iterations
+		}
+		// At a stall, settle first: the run is converged if the gradient
+		// is zero to the rounding of x (and, with differences, to their
+		// accuracy, confirmed); see settle.
+		canSettle := retried != out.iterations
+		if out.iterations > 0 && canSettle {
 			if watson6LBFGSCentralStepWithin(&s, &x, lim.Step) {
-				out.status = Watson6LBFGSCentralStepTiny
-				return out
+				calls, ok := watson6LBFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+				out.evaluations += calls
+				if !ok {
+					return best.ending(Watson6LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+				}
+				if !watson6LBFGSCentralFiniteVec(&g) {
+					return best.ending(Watson6LBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
+				}
+				stalled, confirmed = true, true
+				continue
+			}
+			if rises >= 8 {
+				return best.ending(Watson6LBFGSCentralDiverged, out.iterations, out.evaluations)
 			}
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
-			out.status = Watson6LBFGSCentralOutOfIterations
-			return out
+			return best.ending(Watson6LBFGSCentralOutOfIterations, out.iterations, out.evaluations)
 		}
 		dir.compute(&g, &d)
 		now := watson6LBFGSCentralDot(&g, &d)
@@ -192,50 +272,70 @@ func watson6LBFGSCentralMinimize(x0 [6]float64, lim Watson6LBFGSCentralLimits) w
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := watson6LBFGSCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := watson6LBFGSCentralLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt)
+		found := watson6LBFGSCentralLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case watson6LBFGSCentralSearchOutOfBudget:
-			return out
-		case watson6LBFGSCentralSearchExhausted:
-			out.status = Watson6LBFGSCentralNoAcceptableStep
-			return out
-		case watson6LBFGSCentralSearchTiny:
-			// Converged to the step limit: no step the step test would
-			// reject decreases f. Not so when an analytic gradient is
-			// contradicted by f rising in proportion to the step (see
-			// watson6LBFGSCentralRiseTrend, which never reports that for differences).
-			out.status = Watson6LBFGSCentralStepTiny
-			if found.rising {
-				out.status = Watson6LBFGSCentralNoDecrease
+			return best.ending(Watson6LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+		case watson6LBFGSCentralSearchDiverged:
+			return best.ending(Watson6LBFGSCentralDiverged, out.iterations, out.evaluations)
+		case watson6LBFGSCentralSearchExhausted, watson6LBFGSCentralSearchTiny:
+			// No acceptable step. When an analytic gradient predicted a
+			// fall that f contradicted in proportion to the step, the
+			// gradient is probably wrong (see watson6LBFGSCentralRiseTrend, which never
+			// reports that for differences); otherwise the search stalled
+			// below the step limit, or ran out of trials.
+			end := Watson6LBFGSCentralNoAcceptableStep
+			switch {
+			case found.rising:
+				end = Watson6LBFGSCentralNoDecrease
+			case found.end == watson6LBFGSCentralSearchTiny && canSettle:
+				calls, ok := watson6LBFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+				out.evaluations += calls
+				if !ok {
+					return best.ending(Watson6LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+				}
+				if !watson6LBFGSCentralFiniteVec(&g) {
+					return best.ending(Watson6LBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
+				}
+				stalled, confirmed = true, true
+				continue
+			case found.end == watson6LBFGSCentralSearchTiny:
+				end = Watson6LBFGSCentralStalled
 			}
-			return out
+			return best.ending(end, out.iterations, out.evaluations)
 		}
 		if !watson6LBFGSCentralFiniteVec(&xt) {
-			out.status = Watson6LBFGSCentralNoAcceptableStep // the accepted trial overflowed x
-			return out
+			return best.ending(Watson6LBFGSCentralNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
 		}
 		if !found.gradient {
 			if out.evaluations+watson6LBFGSCentralDerivativeCost > lim.Evaluations {
-				if found.value < fx { // keep a better point even without its gradient
-					out.x, out.f = xt, found.value
+				if found.value < best.f { // keep a better point even without its gradient
+					best.x, best.f, best.gradient = xt, found.value, math.NaN()
 					out.iterations++
 				}
-				return out
+				return best.ending(Watson6LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			watson6LBFGSCentralDerivative(&xt, found.value, &gt)
+			watson6LBFGSCentralDerivative(&xt, found.value, &gt, &diffs)
 			out.evaluations += watson6LBFGSCentralDerivativeCost
 		}
 		out.iterations++
 		watson6LBFGSCentralDifference(&s, &xt, &x)
 		watson6LBFGSCentralDifference(&y, &gt, &g)
-		x, fx, g = xt, found.value, gt
-		out.x, out.f = x, fx
+		if found.value > fx && found.value > start {
+			rises++
+		} else {
+			rises = 0
+		}
+		x, fx, g, confirmed = xt, found.value, gt, false
+		out.x, out.f, out.gradient = x, fx, math.NaN()
 		t, slope = found.step, now
 
 		if !watson6LBFGSCentralFiniteVec(&g) {
-			out.status = Watson6LBFGSCentralNonFiniteGradient
-			return out
+			if out.f < best.f {
+				best = out
+			}
+			return best.ending(Watson6LBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
 		}
 	}
 }
@@ -243,11 +343,19 @@ func watson6LBFGSCentralMinimize(x0 [6]float64, lim Watson6LBFGSCentralLimits) w
 // watson6LBFGSCentralOutcome is the kernel's report; the generated entry point copies it into
 // the spec's result type.
 type watson6LBFGSCentralOutcome struct {
-	x           [6]float64
-	f           float64
-	iterations  int
-	evaluations int
-	status      Watson6LBFGSCentralStatus
+	x             [6]float64
+	f             float64
+	gradient      float64 // the stop test's measure at x, error bound included; NaN when not known
+	gradientLimit float64 // the limit that measure was held to
+	iterations    int
+	evaluations   int
+	status        Watson6LBFGSCentralStatus
+}
+
+// ending is the best point seen, reported with the run's end and counts.
+func (o watson6LBFGSCentralOutcome) ending(end Watson6LBFGSCentralStatus, iterations, evaluations int) watson6LBFGSCentralOutcome {
+	o.status, o.iterations, o.evaluations = end, iterations, evaluations
+	return o
 }
 
 // watson6LBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
@@ -272,26 +380,81 @@ func watson6LBFGSCentralFiniteVec(x *[6]float64) bool {
 	return true
 }
 
-// watson6LBFGSCentralDerivative approximates the gradient by central differences,
+// watson6LBFGSCentralDifferences is what the difference gradients learn from the objective
+// at the start: for each coordinate i, the interval as a multiple of
+// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
+// forward differences, |f‴| for central ones). The analytic gradient
+// leaves it unused.
+type watson6LBFGSCentralDifferences struct {
+	ratio     [6]float64
+	curvature [6]float64
+	second    [6]float64 // |f″| along e_i, for the rounding floor of a stall (see watson6LBFGSCentralRoundingFloor)
+}
+
+// watson6LBFGSCentralCalibrate chooses each central-difference interval from the
+// third derivative along e_i, estimated at x with four probes at ±h̄ and
+// ±2h̄, h̄ = u^(1/4)·s, s = max(1, |x_i|):
 //
-//	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),  h_i = ∛u · max(1, |x_i|),
+//	f‴ ≈ (f(x + 2h̄eᵢ) − 2f(x + h̄eᵢ) + 2f(x − h̄eᵢ) − f(x − 2h̄eᵢ)) / (2h̄³),
+//	h_i  = ∛(3ε_A / |f‴|)
 //
-// with error O(h²) (Nocedal & Wright 2006, eq. 8.7 and §8.1). It costs
-// 2·dim objective calls; fx is not needed.
-func watson6LBFGSCentralDerivative(x *[6]float64, fx float64, g *[6]float64) {
+// the interval that minimizes the truncation error h²|f‴|/6 plus the
+// rounding error ε_A/h of a central difference (Nocedal & Wright 2006,
+// §8.1, with the third-derivative estimate of the forward interval's
+// procedure of Gill, Murray, Saunders & Wright 1983 carried one order
+// up), with ε_A from watson6LBFGSCentralNoiseLevel and the probes' slopes. An estimate below
+// its rounding noise 3ε_A/h̄³ is replaced by that noise, and h_i is kept
+// within [64u·s, h̄]. It costs four objective calls per unknown.
+func watson6LBFGSCentralCalibrate(x *[6]float64, fx float64, diffs *watson6LBFGSCentralDifferences, budget int) (int, bool) {
 	probe := *x
+	var slope [6]float64
+	scale := watson6LBFGSCentralAbs(fx)
+	quarter := watson6LBFGSCentralSquareRoot(watson6LBFGSCentralSquareRoot(watson6LBFGSCentralUnitRoundoff)) // u^(1/4)
 	for i := range probe {
+		if 4*(i+1) > budget {
+			return 4 * i, false
+		}
 		xi := probe[i]
-		h := watson6LBFGSCentralCentralScale * watson6LBFGSCentralLarger(1, watson6LBFGSCentralAbs(xi)) // N&W §8.1: h = ∛u·max(1,|x_i|)
-		up := xi + h
-		down := xi - h
-		probe[i] = up
-		fUp := Watson6(&probe)
-		probe[i] = down
-		fDown := Watson6(&probe)
-		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+		bar := quarter * watson6LBFGSCentralLarger(1, watson6LBFGSCentralAbs(xi))
+		var f [4]float64
+		for k, m := range [4]float64{2, 1, -1, -2} {
+			probe[i], _ = watson6LBFGSCentralProbeStep(xi, m*bar)
+			f[k] = Watson6(&probe)
+			scale = watson6LBFGSCentralLarger(scale, watson6LBFGSCentralMagnitude(f[k]))
+		}
 		probe[i] = xi
+		if watson6LBFGSCentralFinite(f[0]) && watson6LBFGSCentralFinite(f[1]) && watson6LBFGSCentralFinite(f[2]) && watson6LBFGSCentralFinite(f[3]) {
+			diffs.curvature[i] = watson6LBFGSCentralAbs(f[0]-2*f[1]+2*f[2]-f[3]) / (2 * bar * bar * bar)
+			diffs.second[i] = watson6LBFGSCentralAbs(f[1]-2*fx+f[2]) / (bar * bar)
+			slope[i] = (f[1] - f[2]) / (2 * bar)
+		}
 	}
+	noise := watson6LBFGSCentralNoiseLevel(x, scale, &slope)
+	for i := range probe {
+		s := watson6LBFGSCentralLarger(1, watson6LBFGSCentralAbs(probe[i]))
+		bar := quarter * s
+		third := watson6LBFGSCentralLarger(diffs.curvature[i], 3*noise/(bar*bar*bar))
+		h := bar
+		if third > 0 {
+			h = watson6LBFGSCentralCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+		}
+		diffs.ratio[i] = watson6LBFGSCentralClampBetween(h, 64*watson6LBFGSCentralUnitRoundoff*s, bar) / s
+		diffs.curvature[i] = third
+	}
+	return 4 * len(probe), true
+}
+
+// watson6LBFGSCentralAbs returns |v|.
+func watson6LBFGSCentralAbs(v float64) float64 {
+	if v < 0 {
+		return -v
+	}
+	return v
+}
+
+// watson6LBFGSCentralSquareRoot returns √v.
+func watson6LBFGSCentralSquareRoot(v float64) float64 {
+	return math.Sqrt(v)
 }
 
 // watson6LBFGSCentralLarger returns the larger of a and b, or a NaN among them. The builtin
@@ -304,12 +467,81 @@ func watson6LBFGSCentralLarger(a, b float64) float64 {
 	return b
 }
 
-// watson6LBFGSCentralAbs returns |v|.
-func watson6LBFGSCentralAbs(v float64) float64 {
-	if v < 0 {
-		return -v
+// watson6LBFGSCentralProbeStep returns x_i moved by h, and the step actually representable.
+func watson6LBFGSCentralProbeStep(xi, h float64) (float64, float64) {
+	moved := xi + h
+	return moved, moved - xi
+}
+
+// watson6LBFGSCentralMagnitude is |v| for a finite v and 0 otherwise: a probe that fell
+// outside the objective's domain says nothing about its rounding.
+func watson6LBFGSCentralMagnitude(v float64) float64 {
+	if !watson6LBFGSCentralFinite(v) {
+		return 0
+	}
+	return watson6LBFGSCentralAbs(v)
+}
+
+// watson6LBFGSCentralNoiseLevel is the absolute error assumed in a computed value fx of the
+// objective at x, where its gradient is about g:
+//
+//	ε_A = 4u·(|fx| + Σᵢ |gᵢ·xᵢ|),
+//
+// a few roundings of the result plus the change that rounding each xᵢ by
+// a relative u makes in f, which is what an objective computed with
+// cancellation inside (y − x² in Rosenbrock's valley) shows near a zero
+// minimum, where u·|f| alone vanishes (the first-order error of
+// evaluating f at a rounded x; the factor 4 is common practice; Gill,
+// Murray, Saunders & Wright 1983 leave ε_A to the user).
+func watson6LBFGSCentralNoiseLevel(x *[6]float64, fx float64, g *[6]float64) float64 {
+	sum := watson6LBFGSCentralAbs(fx)
+	for i := range x {
+		sum += watson6LBFGSCentralAbs(g[i] * x[i])
+	}
+	return 4 * watson6LBFGSCentralUnitRoundoff * sum
+}
+
+// watson6LBFGSCentralCubeRoot returns ∛v for v ≥ 0.
+func watson6LBFGSCentralCubeRoot(v float64) float64 {
+	return math.Cbrt(v)
+}
+
+// watson6LBFGSCentralClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func watson6LBFGSCentralClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
 	}
 	return v
+}
+
+// watson6LBFGSCentralDerivative approximates the gradient by central differences,
+//
+//	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),
+//
+// with the intervals watson6LBFGSCentralCalibrate chose, h_i = ratio_i·max(1, |x_i|)
+// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls; fx is
+// not needed.
+func watson6LBFGSCentralDerivative(x *[6]float64, fx float64, g *[6]float64, diffs *watson6LBFGSCentralDifferences) {
+	probe := *x
+	for i := range probe {
+		xi := probe[i]
+		h := diffs.ratio[i] * watson6LBFGSCentralLarger(1, watson6LBFGSCentralAbs(xi))
+		up, _ := watson6LBFGSCentralProbeStep(xi, h)
+		down, _ := watson6LBFGSCentralProbeStep(xi, -h)
+		probe[i] = up
+		fUp := Watson6(&probe)
+		probe[i] = down
+		fDown := Watson6(&probe)
+		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+		probe[i] = xi
+	}
 }
 
 // watson6LBFGSCentralDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
@@ -427,15 +659,67 @@ func watson6LBFGSCentralCurvatureSafe(s, y *[6]float64) bool {
 	return sy > 0 && (sy/watson6LBFGSCentralDot(s, s))*(sy/watson6LBFGSCentralDot(y, y)) > watson6LBFGSCentralUnitRoundoff
 }
 
-// watson6LBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
-func watson6LBFGSCentralMaxAbs(x *[6]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := watson6LBFGSCentralAbs(x[i]); a > m || a != a {
-			m = a
-		}
+// watson6LBFGSCentralGradientError bounds each central difference's error by twice its
+// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
+// in forwardError).
+func watson6LBFGSCentralGradientError(x *[6]float64, fx float64, g, e *[6]float64, diffs *watson6LBFGSCentralDifferences) {
+	noise := watson6LBFGSCentralNoiseLevel(x, fx, g)
+	for i := range e {
+		h := diffs.ratio[i] * watson6LBFGSCentralLarger(1, watson6LBFGSCentralAbs(x[i]))
+		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
 	}
-	return m
+}
+
+// watson6LBFGSCentralGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func watson6LBFGSCentralGradientMeasure(g, e, x *[6]float64, fx float64) (measure, floor float64) {
+	scale := watson6LBFGSCentralLarger(watson6LBFGSCentralAbs(fx), 1)
+	for i := range g {
+		w := watson6LBFGSCentralLarger(watson6LBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = watson6LBFGSCentralLarger(measure, (watson6LBFGSCentralAbs(g[i])+e[i])*w)
+		floor = watson6LBFGSCentralLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// watson6LBFGSCentralConfirmGradient recomputes a difference gradient at x before the run is
+// called converged there: it chooses the intervals again from the
+// curvature at x (calibrate), computes g with them and with twice them,
+// and bounds each component's error by the model (watson6LBFGSCentralGradientError) plus
+// three times the change the doubling made. That change measures what the
+// model can miss, truncation from curvature that varies and rounding
+// noise above 4u·|f|; as one sample of that noise it is tripled
+// (Richardson's idea of comparing two intervals; the factor is common
+// practice for a posteriori error estimates). It costs a calibration and two
+// gradients, and returns the calls spent and false when budget ran out
+// first.
+func watson6LBFGSCentralConfirmGradient(x *[6]float64, fx float64, g, e *[6]float64, diffs *watson6LBFGSCentralDifferences, budget int) (int, bool) {
+	calls, ok := watson6LBFGSCentralCalibrate(x, fx, diffs, budget)
+	if !ok || calls+2*watson6LBFGSCentralDerivativeCost > budget {
+		return calls, false
+	}
+	wide := *diffs
+	for i := range wide.ratio {
+		wide.ratio[i] *= 2
+	}
+	var doubled [6]float64
+	watson6LBFGSCentralDerivative(x, fx, g, diffs)
+	watson6LBFGSCentralDerivative(x, fx, &doubled, &wide)
+	watson6LBFGSCentralGradientError(x, fx, g, e, diffs)
+	for i := range e {
+		e[i] += 3 * watson6LBFGSCentralAbs(g[i]-doubled[i])
+	}
+	return calls + 2*watson6LBFGSCentralDerivativeCost, true
 }
 
 // watson6LBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
@@ -448,6 +732,43 @@ func watson6LBFGSCentralStepWithin(s, x *[6]float64, tol float64) bool {
 		}
 	}
 	return true
+}
+
+// watson6LBFGSCentralSettle prepares the final verdict at a stall: with differences it
+// confirms the gradient (watson6LBFGSCentralConfirmGradient), then it adds to each error
+// bound the rounding floor of x (watson6LBFGSCentralRoundingFloor). It returns the objective
+// calls spent and false when budget ran out first.
+func watson6LBFGSCentralSettle(x *[6]float64, fx float64, g, e *[6]float64, diffs *watson6LBFGSCentralDifferences, budget int) (int, bool) {
+	calls := 0
+	if watson6LBFGSCentralDerivativeCost > 0 {
+		spent, ok := watson6LBFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
+	}
+	watson6LBFGSCentralRoundingFloor(x, g, e, diffs)
+	return calls, true
+}
+
+// watson6LBFGSCentralRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
+// that moving xᵢ by a few of its rounding units makes in gᵢ:
+// where no step the step test resolves decreases f, a gradient that small
+// is zero to the rounding of x (the resolution of x in floating point,
+// common practice). It is added only at a stall, so a gradient far above
+// it still ends the run as stalled.
+func watson6LBFGSCentralRoundingFloor(x, g, e *[6]float64, diffs *watson6LBFGSCentralDifferences) {
+	var h [6]float64
+	watson6LBFGSCentralDiagonalCurvature(x, g, diffs, &h)
+	for i := range e {
+		e[i] += 4 * watson6LBFGSCentralUnitRoundoff * watson6LBFGSCentralAbs(x[i]) * h[i]
+	}
+}
+
+// watson6LBFGSCentralDiagonalCurvature takes each |f″| along eᵢ from the differences' last
+// calibration, which watson6LBFGSCentralConfirmGradient has just made at x.
+func watson6LBFGSCentralDiagonalCurvature(x, g *[6]float64, diffs *watson6LBFGSCentralDifferences, h *[6]float64) {
+	*h = diffs.second
 }
 
 // watson6LBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
@@ -486,7 +807,7 @@ func watson6LBFGSCentralTinyStep(x, d *[6]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func watson6LBFGSCentralLineSearch(x *[6]float64, fx float64, d *[6]float64, slope, first, tiny float64, budget int, xt, gt *[6]float64) watson6LBFGSCentralLineResult {
+func watson6LBFGSCentralLineSearch(x *[6]float64, fx float64, d *[6]float64, slope, first, tiny float64, budget int, xt, gt *[6]float64, diffs *watson6LBFGSCentralDifferences) watson6LBFGSCentralLineResult {
 	low := watson6LBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high watson6LBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [6]float64                                                   // ∇f at low, kept for accepting low from a collapsed bracket
@@ -518,7 +839,7 @@ func watson6LBFGSCentralLineSearch(x *[6]float64, fx float64, d *[6]float64, slo
 			if calls+watson6LBFGSCentralDerivativeCost > budget {
 				return watson6LBFGSCentralLineResult{calls: calls, end: watson6LBFGSCentralSearchOutOfBudget}
 			}
-			watson6LBFGSCentralDerivative(xt, current.value, gt)
+			watson6LBFGSCentralDerivative(xt, current.value, gt, diffs)
 			calls += watson6LBFGSCentralDerivativeCost
 			current.slope, current.hasSlope = watson6LBFGSCentralDot(gt, d), true
 			switch {
@@ -543,7 +864,7 @@ func watson6LBFGSCentralLineSearch(x *[6]float64, fx float64, d *[6]float64, slo
 	if low.step > 0 {
 		return watson6LBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
 	}
-	return watson6LBFGSCentralLineResult{calls: calls, end: watson6LBFGSCentralSearchExhausted}
+	return watson6LBFGSCentralLineResult{calls: calls, rising: trend.contradicts(), end: watson6LBFGSCentralSearchExhausted}
 }
 
 // watson6LBFGSCentralLineResult is what a line search reports to the kernel.
@@ -644,6 +965,7 @@ const (
 	watson6LBFGSCentralSearchExhausted                                       // watson6LBFGSCentralStepTrials trials met none
 	watson6LBFGSCentralSearchOutOfBudget                                     // the evaluation cap came first
 	watson6LBFGSCentralSearchTiny                                            // every step longer than tiny failed to decrease f
+	watson6LBFGSCentralSearchDiverged                                        // a fixed step's value overflowed
 )
 
 // watson6LBFGSCentralAcceptLow ends a Wolfe search with its best trial, which met sufficient
@@ -709,26 +1031,6 @@ func watson6LBFGSCentralModelMinimizer(a, b *watson6LBFGSCentralLinePoint) (t fl
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, watson6LBFGSCentralFinite(t)
-}
-
-// watson6LBFGSCentralSquareRoot returns √v.
-func watson6LBFGSCentralSquareRoot(v float64) float64 {
-	return math.Sqrt(v)
-}
-
-// watson6LBFGSCentralClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func watson6LBFGSCentralClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // watson6LBFGSCentralExpandTrial picks a larger trial after current met sufficient decrease

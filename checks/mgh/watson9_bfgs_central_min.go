@@ -8,10 +8,10 @@ import "math"
 type Watson9BFGSCentralStatus uint8
 
 const (
-	// Watson9BFGSCentralGradientSmall: the largest gradient component fell to the gradient limit: converged.
+	// Watson9BFGSCentralGradientSmall: the gradient test holds at X: its measure, with the differences' error bound when they are used, is at most the gradient limit: converged.
 	Watson9BFGSCentralGradientSmall Watson9BFGSCentralStatus = iota + 1
-	// Watson9BFGSCentralStepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f: converged.
-	Watson9BFGSCentralStepTiny
+	// Watson9BFGSCentralStalled: the step test ended the run, or no step longer than the step limit decreased f, while the gradient test still fails: X is as far as the run could get, not a verified minimizer.
+	Watson9BFGSCentralStalled
 	// Watson9BFGSCentralOutOfIterations: the iteration limit came first.
 	Watson9BFGSCentralOutOfIterations
 	// Watson9BFGSCentralOutOfEvaluations: the next objective call would have exceeded the evaluation cap.
@@ -22,8 +22,10 @@ const (
 	Watson9BFGSCentralNonFiniteStart
 	// Watson9BFGSCentralNonFiniteGradient: a gradient component became NaN or ±Inf.
 	Watson9BFGSCentralNonFiniteGradient
-	// Watson9BFGSCentralNoDecrease: no step longer than the step limit decreased f, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test).
+	// Watson9BFGSCentralNoDecrease: the line search found no acceptable step, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test).
 	Watson9BFGSCentralNoDecrease
+	// Watson9BFGSCentralDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
+	Watson9BFGSCentralDiverged
 )
 
 // String describes the status in a few words.
@@ -31,8 +33,8 @@ func (s Watson9BFGSCentralStatus) String() string {
 	switch s {
 	case Watson9BFGSCentralGradientSmall:
 		return "gradient small"
-	case Watson9BFGSCentralStepTiny:
-		return "step tiny"
+	case Watson9BFGSCentralStalled:
+		return "stalled"
 	case Watson9BFGSCentralOutOfIterations:
 		return "out of iterations"
 	case Watson9BFGSCentralOutOfEvaluations:
@@ -45,28 +47,32 @@ func (s Watson9BFGSCentralStatus) String() string {
 		return "non-finite gradient"
 	case Watson9BFGSCentralNoDecrease:
 		return "no decrease"
+	case Watson9BFGSCentralDiverged:
+		return "diverged"
 	default:
 		return "unknown status"
 	}
 }
 
-// Converged reports whether a convergence test, on the gradient or on the step, ended the run; limits, line-search failure and non-finite values are not convergence.
+// Converged reports whether the gradient test holds at X (Gradient ≤ GradientLimit in the result): only then is X a verified stationary point; a stall, the limits, line-search failure and non-finite values are not convergence.
 func (s Watson9BFGSCentralStatus) Converged() bool {
-	return s == Watson9BFGSCentralGradientSmall || s == Watson9BFGSCentralStepTiny
+	return s == Watson9BFGSCentralGradientSmall
 }
 
 // Watson9BFGSCentralResult is where Watson9BFGSCentral stopped and why.
 type Watson9BFGSCentralResult struct {
-	X           [9]float64               // the last accepted point, the best one found
-	F           float64                  // the objective at X
-	Iterations  int                      // accepted steps
-	Evaluations int                      // objective calls, finite differences included
-	Status      Watson9BFGSCentralStatus // why the run stopped; check Status.Converged()
+	X             [9]float64               // where the gradient test held, when converged; else the lowest point seen
+	F             float64                  // the objective at X
+	Gradient      float64                  // the gradient test's measure at X, the differences' error bound included; NaN when the run ended before the gradient at X was known
+	GradientLimit float64                  // the limit Gradient was held to: Limits.Gradient, raised with differences to ten times the measure of their error bound; converged runs have Gradient ≤ GradientLimit
+	Iterations    int                      // accepted steps
+	Evaluations   int                      // objective calls, finite differences included
+	Status        Watson9BFGSCentralStatus // why the run stopped; check Status.Converged()
 }
 
 // Watson9BFGSCentralLimits are the stop limits of one run. Pass them to Watson9BFGSCentralWithLimits to change them at run time; Watson9BFGSCentralDefaultLimits returns the spec's.
 type Watson9BFGSCentralLimits struct {
-	Gradient    float64 // stop when the largest |∂f/∂xᵢ| is at most this
+	Gradient    float64 // stop, converged, when the gradient test's measure is at most this (with differences, at most ten times the measure of their error bound where that is larger)
 	Step        float64 // stop when every |Δxᵢ| is at most this·(|xᵢ| + 1)
 	Iterations  int     // most accepted steps
 	Evaluations int     // hard cap on objective calls, finite differences included; never exceeded
@@ -86,11 +92,12 @@ func Watson9BFGSCentralDefaultLimits() Watson9BFGSCentralLimits {
 //
 // Direction bfgs: BFGS quasi-Newton with a dense inverse-Hessian approximation (dim² numbers).
 // Step rule wolfe: bracket and zoom until sufficient decrease and the curvature condition hold.
-// Derivative central: central differences: 2·dim objective calls per gradient, error O(u^(2/3)).
+// Derivative central: central differences: 2·dim objective calls per gradient, intervals from the objective's curvature, error O(u^(2/3)).
+// Gradient test relative: max over i of (|∂f/∂xᵢ| + eᵢ)·max(|xᵢ|, 1)/max(|f(x)|, 1), eᵢ the error bound of differences (0 for an analytic gradient).
 // Constants: initial 1.0, c1 0.0001, c2 0.9, at most 48 trials per line search.
-// Default stop: largest gradient component ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
+// Default stop: gradient measure ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
 //
-// Worst case: 200000 objective calls, 18 of them per gradient (the evaluation cap; the iteration limit alone would allow 4560019). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
+// Worst case: 200000 objective calls, 18 of them per gradient and 36 per choice of the difference intervals (at the start and before each convergence is confirmed) (the evaluation cap; the iteration limit alone would allow 4921039). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
 func Watson9BFGSCentral(x0 [9]float64) Watson9BFGSCentralResult {
 	return Watson9BFGSCentralWithLimits(x0, Watson9BFGSCentralDefaultLimits())
@@ -100,11 +107,13 @@ func Watson9BFGSCentral(x0 [9]float64) Watson9BFGSCentralResult {
 func Watson9BFGSCentralWithLimits(x0 [9]float64, limits Watson9BFGSCentralLimits) Watson9BFGSCentralResult {
 	out := watson9BFGSCentralMinimize(x0, limits)
 	return Watson9BFGSCentralResult{
-		Evaluations: out.evaluations,
-		F:           out.f,
-		Iterations:  out.iterations,
-		Status:      out.status,
-		X:           out.x,
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
 	}
 }
 
@@ -117,27 +126,40 @@ const (
 	watson9BFGSCentralDerivativeCost = 18                     // objective calls per gradient
 	watson9BFGSCentralUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
 	watson9BFGSCentralLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
-	watson9BFGSCentralCentralScale   = 4.806217383937352e-06  // ∛u, central-difference step scale (Nocedal & Wright 2006, §8.1)
 )
 
 // watson9BFGSCentralMinimize runs the descent loop from x0 within lim:
 //
-//  1. stop when the largest gradient component is at most lim.Gradient;
+//  1. stop, converged, when the gradient measure (watson9BFGSCentralGradientMeasure, error
+//     bound of differences included) is at most the limit: lim.Gradient,
+//     or three times the measure of the differences' error bound when that is
+//     larger, so that the limit can be met (the floor the test can see);
+//     differences confirm it first (watson9BFGSCentralConfirmGradient);
 //  2. stop after lim.Iterations accepted steps;
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
-//  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged,
-//     unless f contradicts an analytic gradient: no decrease);
+//  4. search along d; stop when no trial is acceptable or only steps
+//     shorter than the step limit are left to try: stalled, or no
+//     decrease when f contradicts an analytic gradient (see watson9BFGSCentralRiseTrend);
 //  5. move, refresh the gradient, let the direction learn from the step;
-//  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
+//  6. stop, stalled, when every |Δx_i| is at most lim.Step·(|x_i| + 1) while
+//     the gradient test still fails. At a stall the run settles first
+//     (settle): the error bound gains the rounding floor of x, with
+//     differences confirmed, and the limit rises to ten times the larger
+//     of lim.Gradient and the bound's measure; a gradient within that is
+//     as small as this point can show, and the run is converged with that
+//     limit, which it reports.
 //
-// Before every objective call it checks that lim.Evaluations leaves room
-// for it, so the cap is never exceeded. A NaN or ±Inf at the start or in a
+// Only step 1 is convergence: the first-order test holds at X. Before
+// every objective call it checks that lim.Evaluations leaves room for it,
+// so the cap is never exceeded. A NaN or ±Inf at the start or in a
 // gradient ends the run with its own status; a non-finite trial value is
-// rejected by the line search like any failed trial.
+// rejected by the line search like any failed trial. X is the best point
+// seen unless the run converged, which it did at X. A fixed step whose
+// value overflows, or that raised f above f(x0) at eight steps in a row,
+// ends the run as diverged (common practice for a divergence test).
 func watson9BFGSCentralMinimize(x0 [9]float64, lim Watson9BFGSCentralLimits) watson9BFGSCentralOutcome {
-	out := watson9BFGSCentralOutcome{x: x0, status: Watson9BFGSCentralOutOfEvaluations}
+	out := watson9BFGSCentralOutcome{x: x0, status: Watson9BFGSCentralOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
@@ -148,11 +170,14 @@ func watson9BFGSCentralMinimize(x0 [9]float64, lim Watson9BFGSCentralLimits) wat
 		out.status = Watson9BFGSCentralNonFiniteStart
 		return out
 	}
-	if out.evaluations+watson9BFGSCentralDerivativeCost > lim.Evaluations {
+	var diffs watson9BFGSCentralDifferences
+	calls, ok := watson9BFGSCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
+	out.evaluations += calls
+	if !ok || out.evaluations+watson9BFGSCentralDerivativeCost > lim.Evaluations {
 		return out
 	}
-	var g [9]float64
-	watson9BFGSCentralDerivative(&x, fx, &g)
+	var g, e [9]float64
+	watson9BFGSCentralDerivative(&x, fx, &g, &diffs)
 	out.evaluations += watson9BFGSCentralDerivativeCost
 
 	if !watson9BFGSCentralFiniteVec(&g) {
@@ -163,21 +188,76 @@ func watson9BFGSCentralMinimize(x0 [9]float64, lim Watson9BFGSCentralLimits) wat
 	dir.reset()
 	var d, xt, gt, s, y [9]float64
 	t, slope := float64(watson9BFGSCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
+	best := out                                                    // the lowest point seen, for runs that end unconverged
+	start, rises := fx, 0                                          // f(x0), and consecutive accepted steps that raised f above it
+	confirmed := false                                             // whether g and e at x come from watson9BFGSCentralConfirmGradient
+	stalled := false                                               // whether the run can make no more progress at x
+	retried := -1                                                  // the iteration whose stall was retried with recalibrated differences
 	for {
-		if watson9BFGSCentralMaxAbs(&g) <= lim.Gradient {
+		if !confirmed {
+			watson9BFGSCentralGradientError(&x, fx, &g, &e, &diffs)
+		}
+		measure, floor := watson9BFGSCentralGradientMeasure(&g, &e, &x, fx)
+		out.gradient, out.gradientLimit = measure, watson9BFGSCentralLarger(lim.Gradient, 3*floor)
+		if stalled {
+			// No step can make progress here: the gradient is as small as
+			// this point shows it, within ten times the limit or the floor.
+			out.gradientLimit = 10 * watson9BFGSCentralLarger(lim.Gradient, floor)
+		}
+		if out.f <= best.f {
+			best = out
+		}
+		if measure <= out.gradientLimit && (watson9BFGSCentralDerivativeCost == 0 || confirmed) {
 			out.status = Watson9BFGSCentralGradientSmall
 			return out
 		}
-		if out.iterations > 0 {
+		if measure <= out.gradientLimit {
+			// Differences pass the test: confirm it with intervals chosen
+			// here and an error measured rather than modelled.
+			calls, ok := watson9BFGSCentralConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(Watson9BFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !watson9BFGSCentralFiniteVec(&g) {
+				return best.ending(Watson9BFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			confirmed = true
+			continue
+		}
+		if stalled {
+			// Settled and still above the limit: stalled, unless
+			// differences, whose intervals were just chosen here, can
+			// search once more with the better gradient.
+			if watson9BFGSCentralDerivativeCost == 0 {
+				return best.ending(Watson9BFGSCentralStalled, out.iterations, out.evaluations)
+			}
+			stalled, retried = false, out.iterations
+		}
+		// At a stall, settle first: the run is converged if the gradient
+		// is zero to the rounding of x (and, with differences, to their
+		// accuracy, confirmed); see settle.
+		canSettle := retried != out.iterations
+		if out.iterations > 0 && canSettle {
 			if watson9BFGSCentralStepWithin(&s, &x, lim.Step) {
-				out.status = Watson9BFGSCentralStepTiny
-				return out
+				calls, ok := watson9BFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+				out.evaluations += calls
+				if !ok {
+					return best.ending(Watson9BFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+				}
+				if !watson9BFGSCentralFiniteVec(&g) {
+					return best.ending(Watson9BFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
+				}
+				stalled, confirmed = true, true
+				continue
+			}
+			if rises >= 8 {
+				return best.ending(Watson9BFGSCentralDiverged, out.iterations, out.evaluations)
 			}
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
-			out.status = Watson9BFGSCentralOutOfIterations
-			return out
+			return best.ending(Watson9BFGSCentralOutOfIterations, out.iterations, out.evaluations)
 		}
 		dir.compute(&g, &d)
 		now := watson9BFGSCentralDot(&g, &d)
@@ -191,50 +271,70 @@ func watson9BFGSCentralMinimize(x0 [9]float64, lim Watson9BFGSCentralLimits) wat
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := watson9BFGSCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := watson9BFGSCentralLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt)
+		found := watson9BFGSCentralLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case watson9BFGSCentralSearchOutOfBudget:
-			return out
-		case watson9BFGSCentralSearchExhausted:
-			out.status = Watson9BFGSCentralNoAcceptableStep
-			return out
-		case watson9BFGSCentralSearchTiny:
-			// Converged to the step limit: no step the step test would
-			// reject decreases f. Not so when an analytic gradient is
-			// contradicted by f rising in proportion to the step (see
-			// watson9BFGSCentralRiseTrend, which never reports that for differences).
-			out.status = Watson9BFGSCentralStepTiny
-			if found.rising {
-				out.status = Watson9BFGSCentralNoDecrease
+			return best.ending(Watson9BFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+		case watson9BFGSCentralSearchDiverged:
+			return best.ending(Watson9BFGSCentralDiverged, out.iterations, out.evaluations)
+		case watson9BFGSCentralSearchExhausted, watson9BFGSCentralSearchTiny:
+			// No acceptable step. When an analytic gradient predicted a
+			// fall that f contradicted in proportion to the step, the
+			// gradient is probably wrong (see watson9BFGSCentralRiseTrend, which never
+			// reports that for differences); otherwise the search stalled
+			// below the step limit, or ran out of trials.
+			end := Watson9BFGSCentralNoAcceptableStep
+			switch {
+			case found.rising:
+				end = Watson9BFGSCentralNoDecrease
+			case found.end == watson9BFGSCentralSearchTiny && canSettle:
+				calls, ok := watson9BFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+				out.evaluations += calls
+				if !ok {
+					return best.ending(Watson9BFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+				}
+				if !watson9BFGSCentralFiniteVec(&g) {
+					return best.ending(Watson9BFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
+				}
+				stalled, confirmed = true, true
+				continue
+			case found.end == watson9BFGSCentralSearchTiny:
+				end = Watson9BFGSCentralStalled
 			}
-			return out
+			return best.ending(end, out.iterations, out.evaluations)
 		}
 		if !watson9BFGSCentralFiniteVec(&xt) {
-			out.status = Watson9BFGSCentralNoAcceptableStep // the accepted trial overflowed x
-			return out
+			return best.ending(Watson9BFGSCentralNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
 		}
 		if !found.gradient {
 			if out.evaluations+watson9BFGSCentralDerivativeCost > lim.Evaluations {
-				if found.value < fx { // keep a better point even without its gradient
-					out.x, out.f = xt, found.value
+				if found.value < best.f { // keep a better point even without its gradient
+					best.x, best.f, best.gradient = xt, found.value, math.NaN()
 					out.iterations++
 				}
-				return out
+				return best.ending(Watson9BFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			watson9BFGSCentralDerivative(&xt, found.value, &gt)
+			watson9BFGSCentralDerivative(&xt, found.value, &gt, &diffs)
 			out.evaluations += watson9BFGSCentralDerivativeCost
 		}
 		out.iterations++
 		watson9BFGSCentralDifference(&s, &xt, &x)
 		watson9BFGSCentralDifference(&y, &gt, &g)
-		x, fx, g = xt, found.value, gt
-		out.x, out.f = x, fx
+		if found.value > fx && found.value > start {
+			rises++
+		} else {
+			rises = 0
+		}
+		x, fx, g, confirmed = xt, found.value, gt, false
+		out.x, out.f, out.gradient = x, fx, math.NaN()
 		t, slope = found.step, now
 
 		if !watson9BFGSCentralFiniteVec(&g) {
-			out.status = Watson9BFGSCentralNonFiniteGradient
-			return out
+			if out.f < best.f {
+				best = out
+			}
+			return best.ending(Watson9BFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
 		}
 	}
 }
@@ -242,11 +342,19 @@ func watson9BFGSCentralMinimize(x0 [9]float64, lim Watson9BFGSCentralLimits) wat
 // watson9BFGSCentralOutcome is the kernel's report; the generated entry point copies it into
 // the spec's result type.
 type watson9BFGSCentralOutcome struct {
-	x           [9]float64
-	f           float64
-	iterations  int
-	evaluations int
-	status      Watson9BFGSCentralStatus
+	x             [9]float64
+	f             float64
+	gradient      float64 // the stop test's measure at x, error bound included; NaN when not known
+	gradientLimit float64 // the limit that measure was held to
+	iterations    int
+	evaluations   int
+	status        Watson9BFGSCentralStatus
+}
+
+// ending is the best point seen, reported with the run's end and counts.
+func (o watson9BFGSCentralOutcome) ending(end Watson9BFGSCentralStatus, iterations, evaluations int) watson9BFGSCentralOutcome {
+	o.status, o.iterations, o.evaluations = end, iterations, evaluations
+	return o
 }
 
 // watson9BFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
@@ -271,26 +379,81 @@ func watson9BFGSCentralFiniteVec(x *[9]float64) bool {
 	return true
 }
 
-// watson9BFGSCentralDerivative approximates the gradient by central differences,
+// watson9BFGSCentralDifferences is what the difference gradients learn from the objective
+// at the start: for each coordinate i, the interval as a multiple of
+// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
+// forward differences, |f‴| for central ones). The analytic gradient
+// leaves it unused.
+type watson9BFGSCentralDifferences struct {
+	ratio     [9]float64
+	curvature [9]float64
+	second    [9]float64 // |f″| along e_i, for the rounding floor of a stall (see watson9BFGSCentralRoundingFloor)
+}
+
+// watson9BFGSCentralCalibrate chooses each central-difference interval from the
+// third derivative along e_i, estimated at x with four probes at ±h̄ and
+// ±2h̄, h̄ = u^(1/4)·s, s = max(1, |x_i|):
 //
-//	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),  h_i = ∛u · max(1, |x_i|),
+//	f‴ ≈ (f(x + 2h̄eᵢ) − 2f(x + h̄eᵢ) + 2f(x − h̄eᵢ) − f(x − 2h̄eᵢ)) / (2h̄³),
+//	h_i  = ∛(3ε_A / |f‴|)
 //
-// with error O(h²) (Nocedal & Wright 2006, eq. 8.7 and §8.1). It costs
-// 2·dim objective calls; fx is not needed.
-func watson9BFGSCentralDerivative(x *[9]float64, fx float64, g *[9]float64) {
+// the interval that minimizes the truncation error h²|f‴|/6 plus the
+// rounding error ε_A/h of a central difference (Nocedal & Wright 2006,
+// §8.1, with the third-derivative estimate of the forward interval's
+// procedure of Gill, Murray, Saunders & Wright 1983 carried one order
+// up), with ε_A from watson9BFGSCentralNoiseLevel and the probes' slopes. An estimate below
+// its rounding noise 3ε_A/h̄³ is replaced by that noise, and h_i is kept
+// within [64u·s, h̄]. It costs four objective calls per unknown.
+func watson9BFGSCentralCalibrate(x *[9]float64, fx float64, diffs *watson9BFGSCentralDifferences, budget int) (int, bool) {
 	probe := *x
+	var slope [9]float64
+	scale := watson9BFGSCentralAbs(fx)
+	quarter := watson9BFGSCentralSquareRoot(watson9BFGSCentralSquareRoot(watson9BFGSCentralUnitRoundoff)) // u^(1/4)
 	for i := range probe {
+		if 4*(i+1) > budget {
+			return 4 * i, false
+		}
 		xi := probe[i]
-		h := watson9BFGSCentralCentralScale * watson9BFGSCentralLarger(1, watson9BFGSCentralAbs(xi)) // N&W §8.1: h = ∛u·max(1,|x_i|)
-		up := xi + h
-		down := xi - h
-		probe[i] = up
-		fUp := Watson9(&probe)
-		probe[i] = down
-		fDown := Watson9(&probe)
-		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+		bar := quarter * watson9BFGSCentralLarger(1, watson9BFGSCentralAbs(xi))
+		var f [4]float64
+		for k, m := range [4]float64{2, 1, -1, -2} {
+			probe[i], _ = watson9BFGSCentralProbeStep(xi, m*bar)
+			f[k] = Watson9(&probe)
+			scale = watson9BFGSCentralLarger(scale, watson9BFGSCentralMagnitude(f[k]))
+		}
 		probe[i] = xi
+		if watson9BFGSCentralFinite(f[0]) && watson9BFGSCentralFinite(f[1]) && watson9BFGSCentralFinite(f[2]) && watson9BFGSCentralFinite(f[3]) {
+			diffs.curvature[i] = watson9BFGSCentralAbs(f[0]-2*f[1]+2*f[2]-f[3]) / (2 * bar * bar * bar)
+			diffs.second[i] = watson9BFGSCentralAbs(f[1]-2*fx+f[2]) / (bar * bar)
+			slope[i] = (f[1] - f[2]) / (2 * bar)
+		}
 	}
+	noise := watson9BFGSCentralNoiseLevel(x, scale, &slope)
+	for i := range probe {
+		s := watson9BFGSCentralLarger(1, watson9BFGSCentralAbs(probe[i]))
+		bar := quarter * s
+		third := watson9BFGSCentralLarger(diffs.curvature[i], 3*noise/(bar*bar*bar))
+		h := bar
+		if third > 0 {
+			h = watson9BFGSCentralCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+		}
+		diffs.ratio[i] = watson9BFGSCentralClampBetween(h, 64*watson9BFGSCentralUnitRoundoff*s, bar) / s
+		diffs.curvature[i] = third
+	}
+	return 4 * len(probe), true
+}
+
+// watson9BFGSCentralAbs returns |v|.
+func watson9BFGSCentralAbs(v float64) float64 {
+	if v < 0 {
+		return -v
+	}
+	return v
+}
+
+// watson9BFGSCentralSquareRoot returns √v.
+func watson9BFGSCentralSquareRoot(v float64) float64 {
+	return math.Sqrt(v)
 }
 
 // watson9BFGSCentralLarger returns the larger of a and b, or a NaN among them. The builtin
@@ -303,12 +466,81 @@ func watson9BFGSCentralLarger(a, b float64) float64 {
 	return b
 }
 
-// watson9BFGSCentralAbs returns |v|.
-func watson9BFGSCentralAbs(v float64) float64 {
-	if v < 0 {
-		return -v
+// watson9BFGSCentralProbeStep returns x_i moved by h, and the step actually representable.
+func watson9BFGSCentralProbeStep(xi, h float64) (float64, float64) {
+	moved := xi + h
+	return moved, moved - xi
+}
+
+// watson9BFGSCentralMagnitude is |v| for a finite v and 0 otherwise: a probe that fell
+// outside the objective's domain says nothing about its rounding.
+func watson9BFGSCentralMagnitude(v float64) float64 {
+	if !watson9BFGSCentralFinite(v) {
+		return 0
+	}
+	return watson9BFGSCentralAbs(v)
+}
+
+// watson9BFGSCentralNoiseLevel is the absolute error assumed in a computed value fx of the
+// objective at x, where its gradient is about g:
+//
+//	ε_A = 4u·(|fx| + Σᵢ |gᵢ·xᵢ|),
+//
+// a few roundings of the result plus the change that rounding each xᵢ by
+// a relative u makes in f, which is what an objective computed with
+// cancellation inside (y − x² in Rosenbrock's valley) shows near a zero
+// minimum, where u·|f| alone vanishes (the first-order error of
+// evaluating f at a rounded x; the factor 4 is common practice; Gill,
+// Murray, Saunders & Wright 1983 leave ε_A to the user).
+func watson9BFGSCentralNoiseLevel(x *[9]float64, fx float64, g *[9]float64) float64 {
+	sum := watson9BFGSCentralAbs(fx)
+	for i := range x {
+		sum += watson9BFGSCentralAbs(g[i] * x[i])
+	}
+	return 4 * watson9BFGSCentralUnitRoundoff * sum
+}
+
+// watson9BFGSCentralCubeRoot returns ∛v for v ≥ 0.
+func watson9BFGSCentralCubeRoot(v float64) float64 {
+	return math.Cbrt(v)
+}
+
+// watson9BFGSCentralClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func watson9BFGSCentralClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
 	}
 	return v
+}
+
+// watson9BFGSCentralDerivative approximates the gradient by central differences,
+//
+//	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),
+//
+// with the intervals watson9BFGSCentralCalibrate chose, h_i = ratio_i·max(1, |x_i|)
+// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls; fx is
+// not needed.
+func watson9BFGSCentralDerivative(x *[9]float64, fx float64, g *[9]float64, diffs *watson9BFGSCentralDifferences) {
+	probe := *x
+	for i := range probe {
+		xi := probe[i]
+		h := diffs.ratio[i] * watson9BFGSCentralLarger(1, watson9BFGSCentralAbs(xi))
+		up, _ := watson9BFGSCentralProbeStep(xi, h)
+		down, _ := watson9BFGSCentralProbeStep(xi, -h)
+		probe[i] = up
+		fUp := Watson9(&probe)
+		probe[i] = down
+		fDown := Watson9(&probe)
+		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+		probe[i] = xi
+	}
 }
 
 // watson9BFGSCentralDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
@@ -401,15 +633,67 @@ func watson9BFGSCentralCurvatureSafe(s, y *[9]float64) bool {
 	return sy > 0 && (sy/watson9BFGSCentralDot(s, s))*(sy/watson9BFGSCentralDot(y, y)) > watson9BFGSCentralUnitRoundoff
 }
 
-// watson9BFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
-func watson9BFGSCentralMaxAbs(x *[9]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := watson9BFGSCentralAbs(x[i]); a > m || a != a {
-			m = a
-		}
+// watson9BFGSCentralGradientError bounds each central difference's error by twice its
+// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
+// in forwardError).
+func watson9BFGSCentralGradientError(x *[9]float64, fx float64, g, e *[9]float64, diffs *watson9BFGSCentralDifferences) {
+	noise := watson9BFGSCentralNoiseLevel(x, fx, g)
+	for i := range e {
+		h := diffs.ratio[i] * watson9BFGSCentralLarger(1, watson9BFGSCentralAbs(x[i]))
+		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
 	}
-	return m
+}
+
+// watson9BFGSCentralGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func watson9BFGSCentralGradientMeasure(g, e, x *[9]float64, fx float64) (measure, floor float64) {
+	scale := watson9BFGSCentralLarger(watson9BFGSCentralAbs(fx), 1)
+	for i := range g {
+		w := watson9BFGSCentralLarger(watson9BFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = watson9BFGSCentralLarger(measure, (watson9BFGSCentralAbs(g[i])+e[i])*w)
+		floor = watson9BFGSCentralLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// watson9BFGSCentralConfirmGradient recomputes a difference gradient at x before the run is
+// called converged there: it chooses the intervals again from the
+// curvature at x (calibrate), computes g with them and with twice them,
+// and bounds each component's error by the model (watson9BFGSCentralGradientError) plus
+// three times the change the doubling made. That change measures what the
+// model can miss, truncation from curvature that varies and rounding
+// noise above 4u·|f|; as one sample of that noise it is tripled
+// (Richardson's idea of comparing two intervals; the factor is common
+// practice for a posteriori error estimates). It costs a calibration and two
+// gradients, and returns the calls spent and false when budget ran out
+// first.
+func watson9BFGSCentralConfirmGradient(x *[9]float64, fx float64, g, e *[9]float64, diffs *watson9BFGSCentralDifferences, budget int) (int, bool) {
+	calls, ok := watson9BFGSCentralCalibrate(x, fx, diffs, budget)
+	if !ok || calls+2*watson9BFGSCentralDerivativeCost > budget {
+		return calls, false
+	}
+	wide := *diffs
+	for i := range wide.ratio {
+		wide.ratio[i] *= 2
+	}
+	var doubled [9]float64
+	watson9BFGSCentralDerivative(x, fx, g, diffs)
+	watson9BFGSCentralDerivative(x, fx, &doubled, &wide)
+	watson9BFGSCentralGradientError(x, fx, g, e, diffs)
+	for i := range e {
+		e[i] += 3 * watson9BFGSCentralAbs(g[i]-doubled[i])
+	}
+	return calls + 2*watson9BFGSCentralDerivativeCost, true
 }
 
 // watson9BFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
@@ -422,6 +706,43 @@ func watson9BFGSCentralStepWithin(s, x *[9]float64, tol float64) bool {
 		}
 	}
 	return true
+}
+
+// watson9BFGSCentralSettle prepares the final verdict at a stall: with differences it
+// confirms the gradient (watson9BFGSCentralConfirmGradient), then it adds to each error
+// bound the rounding floor of x (watson9BFGSCentralRoundingFloor). It returns the objective
+// calls spent and false when budget ran out first.
+func watson9BFGSCentralSettle(x *[9]float64, fx float64, g, e *[9]float64, diffs *watson9BFGSCentralDifferences, budget int) (int, bool) {
+	calls := 0
+	if watson9BFGSCentralDerivativeCost > 0 {
+		spent, ok := watson9BFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
+	}
+	watson9BFGSCentralRoundingFloor(x, g, e, diffs)
+	return calls, true
+}
+
+// watson9BFGSCentralRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
+// that moving xᵢ by a few of its rounding units makes in gᵢ:
+// where no step the step test resolves decreases f, a gradient that small
+// is zero to the rounding of x (the resolution of x in floating point,
+// common practice). It is added only at a stall, so a gradient far above
+// it still ends the run as stalled.
+func watson9BFGSCentralRoundingFloor(x, g, e *[9]float64, diffs *watson9BFGSCentralDifferences) {
+	var h [9]float64
+	watson9BFGSCentralDiagonalCurvature(x, g, diffs, &h)
+	for i := range e {
+		e[i] += 4 * watson9BFGSCentralUnitRoundoff * watson9BFGSCentralAbs(x[i]) * h[i]
+	}
+}
+
+// watson9BFGSCentralDiagonalCurvature takes each |f″| along eᵢ from the differences' last
+// calibration, which watson9BFGSCentralConfirmGradient has just made at x.
+func watson9BFGSCentralDiagonalCurvature(x, g *[9]float64, diffs *watson9BFGSCentralDifferences, h *[9]float64) {
+	*h = diffs.second
 }
 
 // watson9BFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
@@ -460,7 +781,7 @@ func watson9BFGSCentralTinyStep(x, d *[9]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func watson9BFGSCentralLineSearch(x *[9]float64, fx float64, d *[9]float64, slope, first, tiny float64, budget int, xt, gt *[9]float64) watson9BFGSCentralLineResult {
+func watson9BFGSCentralLineSearch(x *[9]float64, fx float64, d *[9]float64, slope, first, tiny float64, budget int, xt, gt *[9]float64, diffs *watson9BFGSCentralDifferences) watson9BFGSCentralLineResult {
 	low := watson9BFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high watson9BFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [9]float64                                                  // ∇f at low, kept for accepting low from a collapsed bracket
@@ -492,7 +813,7 @@ func watson9BFGSCentralLineSearch(x *[9]float64, fx float64, d *[9]float64, slop
 			if calls+watson9BFGSCentralDerivativeCost > budget {
 				return watson9BFGSCentralLineResult{calls: calls, end: watson9BFGSCentralSearchOutOfBudget}
 			}
-			watson9BFGSCentralDerivative(xt, current.value, gt)
+			watson9BFGSCentralDerivative(xt, current.value, gt, diffs)
 			calls += watson9BFGSCentralDerivativeCost
 			current.slope, current.hasSlope = watson9BFGSCentralDot(gt, d), true
 			switch {
@@ -517,7 +838,7 @@ func watson9BFGSCentralLineSearch(x *[9]float64, fx float64, d *[9]float64, slop
 	if low.step > 0 {
 		return watson9BFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
 	}
-	return watson9BFGSCentralLineResult{calls: calls, end: watson9BFGSCentralSearchExhausted}
+	return watson9BFGSCentralLineResult{calls: calls, rising: trend.contradicts(), end: watson9BFGSCentralSearchExhausted}
 }
 
 // watson9BFGSCentralLineResult is what a line search reports to the kernel.
@@ -618,6 +939,7 @@ const (
 	watson9BFGSCentralSearchExhausted                                      // watson9BFGSCentralStepTrials trials met none
 	watson9BFGSCentralSearchOutOfBudget                                    // the evaluation cap came first
 	watson9BFGSCentralSearchTiny                                           // every step longer than tiny failed to decrease f
+	watson9BFGSCentralSearchDiverged                                       // a fixed step's value overflowed
 )
 
 // watson9BFGSCentralAcceptLow ends a Wolfe search with its best trial, which met sufficient
@@ -683,26 +1005,6 @@ func watson9BFGSCentralModelMinimizer(a, b *watson9BFGSCentralLinePoint) (t floa
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, watson9BFGSCentralFinite(t)
-}
-
-// watson9BFGSCentralSquareRoot returns √v.
-func watson9BFGSCentralSquareRoot(v float64) float64 {
-	return math.Sqrt(v)
-}
-
-// watson9BFGSCentralClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func watson9BFGSCentralClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // watson9BFGSCentralExpandTrial picks a larger trial after current met sufficient decrease

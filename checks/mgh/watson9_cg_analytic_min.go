@@ -8,10 +8,10 @@ import "math"
 type Watson9CGAnalyticStatus uint8
 
 const (
-	// Watson9CGAnalyticGradientSmall: the largest gradient component fell to the gradient limit: converged.
+	// Watson9CGAnalyticGradientSmall: the gradient test holds at X: its measure, with the differences' error bound when they are used, is at most the gradient limit: converged.
 	Watson9CGAnalyticGradientSmall Watson9CGAnalyticStatus = iota + 1
-	// Watson9CGAnalyticStepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f: converged.
-	Watson9CGAnalyticStepTiny
+	// Watson9CGAnalyticStalled: the step test ended the run, or no step longer than the step limit decreased f, while the gradient test still fails: X is as far as the run could get, not a verified minimizer.
+	Watson9CGAnalyticStalled
 	// Watson9CGAnalyticOutOfIterations: the iteration limit came first.
 	Watson9CGAnalyticOutOfIterations
 	// Watson9CGAnalyticOutOfEvaluations: the next objective call would have exceeded the evaluation cap.
@@ -22,8 +22,10 @@ const (
 	Watson9CGAnalyticNonFiniteStart
 	// Watson9CGAnalyticNonFiniteGradient: a gradient component became NaN or ±Inf.
 	Watson9CGAnalyticNonFiniteGradient
-	// Watson9CGAnalyticNoDecrease: no step longer than the step limit decreased f, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test).
+	// Watson9CGAnalyticNoDecrease: the line search found no acceptable step, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test).
 	Watson9CGAnalyticNoDecrease
+	// Watson9CGAnalyticDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
+	Watson9CGAnalyticDiverged
 )
 
 // String describes the status in a few words.
@@ -31,8 +33,8 @@ func (s Watson9CGAnalyticStatus) String() string {
 	switch s {
 	case Watson9CGAnalyticGradientSmall:
 		return "gradient small"
-	case Watson9CGAnalyticStepTiny:
-		return "step tiny"
+	case Watson9CGAnalyticStalled:
+		return "stalled"
 	case Watson9CGAnalyticOutOfIterations:
 		return "out of iterations"
 	case Watson9CGAnalyticOutOfEvaluations:
@@ -45,28 +47,32 @@ func (s Watson9CGAnalyticStatus) String() string {
 		return "non-finite gradient"
 	case Watson9CGAnalyticNoDecrease:
 		return "no decrease"
+	case Watson9CGAnalyticDiverged:
+		return "diverged"
 	default:
 		return "unknown status"
 	}
 }
 
-// Converged reports whether a convergence test, on the gradient or on the step, ended the run; limits, line-search failure and non-finite values are not convergence.
+// Converged reports whether the gradient test holds at X (Gradient ≤ GradientLimit in the result): only then is X a verified stationary point; a stall, the limits, line-search failure and non-finite values are not convergence.
 func (s Watson9CGAnalyticStatus) Converged() bool {
-	return s == Watson9CGAnalyticGradientSmall || s == Watson9CGAnalyticStepTiny
+	return s == Watson9CGAnalyticGradientSmall
 }
 
 // Watson9CGAnalyticResult is where Watson9CGAnalytic stopped and why.
 type Watson9CGAnalyticResult struct {
-	X           [9]float64              // the last accepted point, the best one found
-	F           float64                 // the objective at X
-	Iterations  int                     // accepted steps
-	Evaluations int                     // objective calls, finite differences included
-	Status      Watson9CGAnalyticStatus // why the run stopped; check Status.Converged()
+	X             [9]float64              // where the gradient test held, when converged; else the lowest point seen
+	F             float64                 // the objective at X
+	Gradient      float64                 // the gradient test's measure at X, the differences' error bound included; NaN when the run ended before the gradient at X was known
+	GradientLimit float64                 // the limit Gradient was held to: Limits.Gradient, raised with differences to ten times the measure of their error bound; converged runs have Gradient ≤ GradientLimit
+	Iterations    int                     // accepted steps
+	Evaluations   int                     // objective calls, finite differences included
+	Status        Watson9CGAnalyticStatus // why the run stopped; check Status.Converged()
 }
 
 // Watson9CGAnalyticLimits are the stop limits of one run. Pass them to Watson9CGAnalyticWithLimits to change them at run time; Watson9CGAnalyticDefaultLimits returns the spec's.
 type Watson9CGAnalyticLimits struct {
-	Gradient    float64 // stop when the largest |∂f/∂xᵢ| is at most this
+	Gradient    float64 // stop, converged, when the gradient test's measure is at most this (with differences, at most ten times the measure of their error bound where that is larger)
 	Step        float64 // stop when every |Δxᵢ| is at most this·(|xᵢ| + 1)
 	Iterations  int     // most accepted steps
 	Evaluations int     // hard cap on objective calls, finite differences included; never exceeded
@@ -87,10 +93,11 @@ func Watson9CGAnalyticDefaultLimits() Watson9CGAnalyticLimits {
 // Direction cg: nonlinear conjugate gradients, Polak–Ribière clipped at zero (PR+), restarted every dim steps.
 // Step rule strong-wolfe: bracket and zoom until sufficient decrease and the strong curvature condition hold.
 // Derivative analytic: the user's own gradient function (spec key `gradient`); costs no objective calls.
+// Gradient test relative: max over i of (|∂f/∂xᵢ| + eᵢ)·max(|xᵢ|, 1)/max(|f(x)|, 1), eᵢ the error bound of differences (0 for an analytic gradient).
 // Constants: initial 1.0, c1 0.0001, c2 0.1, at most 48 trials per line search.
-// Default stop: largest gradient component ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
+// Default stop: gradient measure ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
 //
-// Worst case: 200000 objective calls (the evaluation cap; the iteration limit alone would allow 240001). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
+// Worst case: 200000 objective calls (the evaluation cap; the iteration limit alone would allow 240049). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
 func Watson9CGAnalytic(x0 [9]float64) Watson9CGAnalyticResult {
 	return Watson9CGAnalyticWithLimits(x0, Watson9CGAnalyticDefaultLimits())
@@ -100,11 +107,13 @@ func Watson9CGAnalytic(x0 [9]float64) Watson9CGAnalyticResult {
 func Watson9CGAnalyticWithLimits(x0 [9]float64, limits Watson9CGAnalyticLimits) Watson9CGAnalyticResult {
 	out := watson9CGAnalyticMinimize(x0, limits)
 	return Watson9CGAnalyticResult{
-		Evaluations: out.evaluations,
-		F:           out.f,
-		Iterations:  out.iterations,
-		Status:      out.status,
-		X:           out.x,
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
 	}
 }
 
@@ -121,22 +130,36 @@ const (
 
 // watson9CGAnalyticMinimize runs the descent loop from x0 within lim:
 //
-//  1. stop when the largest gradient component is at most lim.Gradient;
+//  1. stop, converged, when the gradient measure (watson9CGAnalyticGradientMeasure, error
+//     bound of differences included) is at most the limit: lim.Gradient,
+//     or three times the measure of the differences' error bound when that is
+//     larger, so that the limit can be met (the floor the test can see);
+//     differences confirm it first (watson9CGAnalyticConfirmGradient);
 //  2. stop after lim.Iterations accepted steps;
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
-//  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged,
-//     unless f contradicts an analytic gradient: no decrease);
+//  4. search along d; stop when no trial is acceptable or only steps
+//     shorter than the step limit are left to try: stalled, or no
+//     decrease when f contradicts an analytic gradient (see watson9CGAnalyticRiseTrend);
 //  5. move, refresh the gradient, let the direction learn from the step;
-//  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
+//  6. stop, stalled, when every |Δx_i| is at most lim.Step·(|x_i| + 1) while
+//     the gradient test still fails. At a stall the run settles first
+//     (settle): the error bound gains the rounding floor of x, with
+//     differences confirmed, and the limit rises to ten times the larger
+//     of lim.Gradient and the bound's measure; a gradient within that is
+//     as small as this point can show, and the run is converged with that
+//     limit, which it reports.
 //
-// Before every objective call it checks that lim.Evaluations leaves room
-// for it, so the cap is never exceeded. A NaN or ±Inf at the start or in a
+// Only step 1 is convergence: the first-order test holds at X. Before
+// every objective call it checks that lim.Evaluations leaves room for it,
+// so the cap is never exceeded. A NaN or ±Inf at the start or in a
 // gradient ends the run with its own status; a non-finite trial value is
-// rejected by the line search like any failed trial.
+// rejected by the line search like any failed trial. X is the best point
+// seen unless the run converged, which it did at X. A fixed step whose
+// value overflows, or that raised f above f(x0) at eight steps in a row,
+// ends the run as diverged (common practice for a divergence test).
 func watson9CGAnalyticMinimize(x0 [9]float64, lim Watson9CGAnalyticLimits) watson9CGAnalyticOutcome {
-	out := watson9CGAnalyticOutcome{x: x0, status: Watson9CGAnalyticOutOfEvaluations}
+	out := watson9CGAnalyticOutcome{x: x0, status: Watson9CGAnalyticOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
@@ -147,11 +170,14 @@ func watson9CGAnalyticMinimize(x0 [9]float64, lim Watson9CGAnalyticLimits) watso
 		out.status = Watson9CGAnalyticNonFiniteStart
 		return out
 	}
-	if out.evaluations+watson9CGAnalyticDerivativeCost > lim.Evaluations {
+	var diffs watson9CGAnalyticDifferences
+	calls, ok := watson9CGAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
+	out.evaluations += calls
+	if !ok || out.evaluations+watson9CGAnalyticDerivativeCost > lim.Evaluations {
 		return out
 	}
-	var g [9]float64
-	watson9CGAnalyticDerivative(&x, fx, &g)
+	var g, e [9]float64
+	watson9CGAnalyticDerivative(&x, fx, &g, &diffs)
 	out.evaluations += watson9CGAnalyticDerivativeCost
 
 	if !watson9CGAnalyticFiniteVec(&g) {
@@ -162,21 +188,76 @@ func watson9CGAnalyticMinimize(x0 [9]float64, lim Watson9CGAnalyticLimits) watso
 	dir.reset()
 	var d, xt, gt, s, y [9]float64
 	t, slope := float64(watson9CGAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
+	best := out                                                   // the lowest point seen, for runs that end unconverged
+	start, rises := fx, 0                                         // f(x0), and consecutive accepted steps that raised f above it
+	confirmed := false                                            // whether g and e at x come from watson9CGAnalyticConfirmGradient
+	stalled := false                                              // whether the run can make no more progress at x
+	retried := -1                                                 // the iteration whose stall was retried with recalibrated differences
 	for {
-		if watson9CGAnalyticMaxAbs(&g) <= lim.Gradient {
+		if !confirmed {
+			watson9CGAnalyticGradientError(&x, fx, &g, &e, &diffs)
+		}
+		measure, floor := watson9CGAnalyticGradientMeasure(&g, &e, &x, fx)
+		out.gradient, out.gradientLimit = measure, watson9CGAnalyticLarger(lim.Gradient, 3*floor)
+		if stalled {
+			// No step can make progress here: the gradient is as small as
+			// this point shows it, within ten times the limit or the floor.
+			out.gradientLimit = 10 * watson9CGAnalyticLarger(lim.Gradient, floor)
+		}
+		if out.f <= best.f {
+			best = out
+		}
+		if measure <= out.gradientLimit && (watson9CGAnalyticDerivativeCost == 0 || confirmed) {
 			out.status = Watson9CGAnalyticGradientSmall
 			return out
 		}
-		if out.iterations > 0 {
+		if measure <= out.gradientLimit {
+			// Differences pass the test: confirm it with intervals chosen
+			// here and an error measured rather than modelled.
+			calls, ok := watson9CGAnalyticConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(Watson9CGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !watson9CGAnalyticFiniteVec(&g) {
+				return best.ending(Watson9CGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			confirmed = true
+			continue
+		}
+		if stalled {
+			// Settled and still above the limit: stalled, unless
+			// differences, whose intervals were just chosen here, can
+			// search once more with the better gradient.
+			if watson9CGAnalyticDerivativeCost == 0 {
+				return best.ending(Watson9CGAnalyticStalled, out.iterations, out.evaluations)
+			}
+			stalled, retried = false, out.iterations
+		}
+		// At a stall, settle first: the run is converged if the gradient
+		// is zero to the rounding of x (and, with differences, to their
+		// accuracy, confirmed); see settle.
+		canSettle := retried != out.iterations
+		if out.iterations > 0 && canSettle {
 			if watson9CGAnalyticStepWithin(&s, &x, lim.Step) {
-				out.status = Watson9CGAnalyticStepTiny
-				return out
+				calls, ok := watson9CGAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+				out.evaluations += calls
+				if !ok {
+					return best.ending(Watson9CGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+				}
+				if !watson9CGAnalyticFiniteVec(&g) {
+					return best.ending(Watson9CGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+				}
+				stalled, confirmed = true, true
+				continue
+			}
+			if rises >= 8 {
+				return best.ending(Watson9CGAnalyticDiverged, out.iterations, out.evaluations)
 			}
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
-			out.status = Watson9CGAnalyticOutOfIterations
-			return out
+			return best.ending(Watson9CGAnalyticOutOfIterations, out.iterations, out.evaluations)
 		}
 		dir.compute(&g, &d)
 		now := watson9CGAnalyticDot(&g, &d)
@@ -190,50 +271,70 @@ func watson9CGAnalyticMinimize(x0 [9]float64, lim Watson9CGAnalyticLimits) watso
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := watson9CGAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := watson9CGAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt)
+		found := watson9CGAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case watson9CGAnalyticSearchOutOfBudget:
-			return out
-		case watson9CGAnalyticSearchExhausted:
-			out.status = Watson9CGAnalyticNoAcceptableStep
-			return out
-		case watson9CGAnalyticSearchTiny:
-			// Converged to the step limit: no step the step test would
-			// reject decreases f. Not so when an analytic gradient is
-			// contradicted by f rising in proportion to the step (see
-			// watson9CGAnalyticRiseTrend, which never reports that for differences).
-			out.status = Watson9CGAnalyticStepTiny
-			if found.rising {
-				out.status = Watson9CGAnalyticNoDecrease
+			return best.ending(Watson9CGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+		case watson9CGAnalyticSearchDiverged:
+			return best.ending(Watson9CGAnalyticDiverged, out.iterations, out.evaluations)
+		case watson9CGAnalyticSearchExhausted, watson9CGAnalyticSearchTiny:
+			// No acceptable step. When an analytic gradient predicted a
+			// fall that f contradicted in proportion to the step, the
+			// gradient is probably wrong (see watson9CGAnalyticRiseTrend, which never
+			// reports that for differences); otherwise the search stalled
+			// below the step limit, or ran out of trials.
+			end := Watson9CGAnalyticNoAcceptableStep
+			switch {
+			case found.rising:
+				end = Watson9CGAnalyticNoDecrease
+			case found.end == watson9CGAnalyticSearchTiny && canSettle:
+				calls, ok := watson9CGAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+				out.evaluations += calls
+				if !ok {
+					return best.ending(Watson9CGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+				}
+				if !watson9CGAnalyticFiniteVec(&g) {
+					return best.ending(Watson9CGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+				}
+				stalled, confirmed = true, true
+				continue
+			case found.end == watson9CGAnalyticSearchTiny:
+				end = Watson9CGAnalyticStalled
 			}
-			return out
+			return best.ending(end, out.iterations, out.evaluations)
 		}
 		if !watson9CGAnalyticFiniteVec(&xt) {
-			out.status = Watson9CGAnalyticNoAcceptableStep // the accepted trial overflowed x
-			return out
+			return best.ending(Watson9CGAnalyticNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
 		}
 		if !found.gradient {
 			if out.evaluations+watson9CGAnalyticDerivativeCost > lim.Evaluations {
-				if found.value < fx { // keep a better point even without its gradient
-					out.x, out.f = xt, found.value
+				if found.value < best.f { // keep a better point even without its gradient
+					best.x, best.f, best.gradient = xt, found.value, math.NaN()
 					out.iterations++
 				}
-				return out
+				return best.ending(Watson9CGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			watson9CGAnalyticDerivative(&xt, found.value, &gt)
+			watson9CGAnalyticDerivative(&xt, found.value, &gt, &diffs)
 			out.evaluations += watson9CGAnalyticDerivativeCost
 		}
 		out.iterations++
 		watson9CGAnalyticDifference(&s, &xt, &x)
 		watson9CGAnalyticDifference(&y, &gt, &g)
-		x, fx, g = xt, found.value, gt
-		out.x, out.f = x, fx
+		if found.value > fx && found.value > start {
+			rises++
+		} else {
+			rises = 0
+		}
+		x, fx, g, confirmed = xt, found.value, gt, false
+		out.x, out.f, out.gradient = x, fx, math.NaN()
 		t, slope = found.step, now
 
 		if !watson9CGAnalyticFiniteVec(&g) {
-			out.status = Watson9CGAnalyticNonFiniteGradient
-			return out
+			if out.f < best.f {
+				best = out
+			}
+			return best.ending(Watson9CGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
 		}
 	}
 }
@@ -241,11 +342,19 @@ func watson9CGAnalyticMinimize(x0 [9]float64, lim Watson9CGAnalyticLimits) watso
 // watson9CGAnalyticOutcome is the kernel's report; the generated entry point copies it into
 // the spec's result type.
 type watson9CGAnalyticOutcome struct {
-	x           [9]float64
-	f           float64
-	iterations  int
-	evaluations int
-	status      Watson9CGAnalyticStatus
+	x             [9]float64
+	f             float64
+	gradient      float64 // the stop test's measure at x, error bound included; NaN when not known
+	gradientLimit float64 // the limit that measure was held to
+	iterations    int
+	evaluations   int
+	status        Watson9CGAnalyticStatus
+}
+
+// ending is the best point seen, reported with the run's end and counts.
+func (o watson9CGAnalyticOutcome) ending(end Watson9CGAnalyticStatus, iterations, evaluations int) watson9CGAnalyticOutcome {
+	o.status, o.iterations, o.evaluations = end, iterations, evaluations
+	return o
 }
 
 // watson9CGAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
@@ -270,8 +379,24 @@ func watson9CGAnalyticFiniteVec(x *[9]float64) bool {
 	return true
 }
 
+// watson9CGAnalyticDifferences is what the difference gradients learn from the objective
+// at the start: for each coordinate i, the interval as a multiple of
+// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
+// forward differences, |f‴| for central ones). The analytic gradient
+// leaves it unused.
+type watson9CGAnalyticDifferences struct {
+	ratio     [9]float64
+	curvature [9]float64
+	second    [9]float64 // |f″| along e_i, for the rounding floor of a stall (see watson9CGAnalyticRoundingFloor)
+}
+
+// watson9CGAnalyticCalibrate: an analytic gradient needs no intervals.
+func watson9CGAnalyticCalibrate(x *[9]float64, fx float64, diffs *watson9CGAnalyticDifferences, budget int) (int, bool) {
+	return 0, true
+}
+
 // watson9CGAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func watson9CGAnalyticDerivative(x *[9]float64, fx float64, g *[9]float64) {
+func watson9CGAnalyticDerivative(x *[9]float64, fx float64, g *[9]float64, diffs *watson9CGAnalyticDifferences) {
 	Watson9Grad(x, g)
 }
 
@@ -357,15 +482,33 @@ func watson9CGAnalyticScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
-// watson9CGAnalyticMaxAbs returns the largest |x_i|, the infinity norm.
-func watson9CGAnalyticMaxAbs(x *[9]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := watson9CGAnalyticAbs(x[i]); a > m || a != a {
-			m = a
-		}
+// watson9CGAnalyticGradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func watson9CGAnalyticGradientError(x *[9]float64, fx float64, g, e *[9]float64, diffs *watson9CGAnalyticDifferences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return m
+}
+
+// watson9CGAnalyticGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func watson9CGAnalyticGradientMeasure(g, e, x *[9]float64, fx float64) (measure, floor float64) {
+	scale := watson9CGAnalyticLarger(watson9CGAnalyticAbs(fx), 1)
+	for i := range g {
+		w := watson9CGAnalyticLarger(watson9CGAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = watson9CGAnalyticLarger(measure, (watson9CGAnalyticAbs(g[i])+e[i])*w)
+		floor = watson9CGAnalyticLarger(floor, e[i]*w)
+	}
+	return measure, floor
 }
 
 // watson9CGAnalyticAbs returns |v|.
@@ -374,6 +517,36 @@ func watson9CGAnalyticAbs(v float64) float64 {
 		return -v
 	}
 	return v
+}
+
+// watson9CGAnalyticConfirmGradient recomputes a difference gradient at x before the run is
+// called converged there: it chooses the intervals again from the
+// curvature at x (calibrate), computes g with them and with twice them,
+// and bounds each component's error by the model (watson9CGAnalyticGradientError) plus
+// three times the change the doubling made. That change measures what the
+// model can miss, truncation from curvature that varies and rounding
+// noise above 4u·|f|; as one sample of that noise it is tripled
+// (Richardson's idea of comparing two intervals; the factor is common
+// practice for a posteriori error estimates). It costs a calibration and two
+// gradients, and returns the calls spent and false when budget ran out
+// first.
+func watson9CGAnalyticConfirmGradient(x *[9]float64, fx float64, g, e *[9]float64, diffs *watson9CGAnalyticDifferences, budget int) (int, bool) {
+	calls, ok := watson9CGAnalyticCalibrate(x, fx, diffs, budget)
+	if !ok || calls+2*watson9CGAnalyticDerivativeCost > budget {
+		return calls, false
+	}
+	wide := *diffs
+	for i := range wide.ratio {
+		wide.ratio[i] *= 2
+	}
+	var doubled [9]float64
+	watson9CGAnalyticDerivative(x, fx, g, diffs)
+	watson9CGAnalyticDerivative(x, fx, &doubled, &wide)
+	watson9CGAnalyticGradientError(x, fx, g, e, diffs)
+	for i := range e {
+		e[i] += 3 * watson9CGAnalyticAbs(g[i]-doubled[i])
+	}
+	return calls + 2*watson9CGAnalyticDerivativeCost, true
 }
 
 // watson9CGAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
@@ -386,6 +559,65 @@ func watson9CGAnalyticStepWithin(s, x *[9]float64, tol float64) bool {
 		}
 	}
 	return true
+}
+
+// watson9CGAnalyticSettle prepares the final verdict at a stall: with differences it
+// confirms the gradient (watson9CGAnalyticConfirmGradient), then it adds to each error
+// bound the rounding floor of x (watson9CGAnalyticRoundingFloor). It returns the objective
+// calls spent and false when budget ran out first.
+func watson9CGAnalyticSettle(x *[9]float64, fx float64, g, e *[9]float64, diffs *watson9CGAnalyticDifferences, budget int) (int, bool) {
+	calls := 0
+	if watson9CGAnalyticDerivativeCost > 0 {
+		spent, ok := watson9CGAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
+	}
+	watson9CGAnalyticRoundingFloor(x, g, e, diffs)
+	return calls, true
+}
+
+// watson9CGAnalyticRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
+// that moving xᵢ by a few of its rounding units makes in gᵢ:
+// where no step the step test resolves decreases f, a gradient that small
+// is zero to the rounding of x (the resolution of x in floating point,
+// common practice). It is added only at a stall, so a gradient far above
+// it still ends the run as stalled.
+func watson9CGAnalyticRoundingFloor(x, g, e *[9]float64, diffs *watson9CGAnalyticDifferences) {
+	var h [9]float64
+	watson9CGAnalyticDiagonalCurvature(x, g, diffs, &h)
+	for i := range e {
+		e[i] += 4 * watson9CGAnalyticUnitRoundoff * watson9CGAnalyticAbs(x[i]) * h[i]
+	}
+}
+
+// watson9CGAnalyticDiagonalCurvature estimates each |∂²f/∂xᵢ²| from the analytic gradient
+// at x + δᵢeᵢ, δᵢ = √u·max(1, |xᵢ|): dim gradient calls and no objective
+// call (a forward difference of the gradient, Nocedal & Wright 2006,
+// §8.1).
+func watson9CGAnalyticDiagonalCurvature(x, g *[9]float64, diffs *watson9CGAnalyticDifferences, h *[9]float64) {
+	probe := *x
+	var moved [9]float64
+	for i := range probe {
+		xi := probe[i]
+		up, delta := watson9CGAnalyticProbeStep(xi, watson9CGAnalyticSquareRoot(watson9CGAnalyticUnitRoundoff)*watson9CGAnalyticLarger(1, watson9CGAnalyticAbs(xi)))
+		probe[i] = up
+		Watson9Grad(&probe, &moved)
+		h[i] = watson9CGAnalyticAbs(moved[i]-g[i]) / delta
+		probe[i] = xi
+	}
+}
+
+// watson9CGAnalyticProbeStep returns x_i moved by h, and the step actually representable.
+func watson9CGAnalyticProbeStep(xi, h float64) (float64, float64) {
+	moved := xi + h
+	return moved, moved - xi
+}
+
+// watson9CGAnalyticSquareRoot returns √v.
+func watson9CGAnalyticSquareRoot(v float64) float64 {
+	return math.Sqrt(v)
 }
 
 // watson9CGAnalyticTinyStep returns the longest t for which the step t·d from x passes the
@@ -424,7 +656,7 @@ func watson9CGAnalyticTinyStep(x, d *[9]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func watson9CGAnalyticLineSearch(x *[9]float64, fx float64, d *[9]float64, slope, first, tiny float64, budget int, xt, gt *[9]float64) watson9CGAnalyticLineResult {
+func watson9CGAnalyticLineSearch(x *[9]float64, fx float64, d *[9]float64, slope, first, tiny float64, budget int, xt, gt *[9]float64, diffs *watson9CGAnalyticDifferences) watson9CGAnalyticLineResult {
 	low := watson9CGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high watson9CGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [9]float64                                                 // ∇f at low, kept for accepting low from a collapsed bracket
@@ -456,7 +688,7 @@ func watson9CGAnalyticLineSearch(x *[9]float64, fx float64, d *[9]float64, slope
 			if calls+watson9CGAnalyticDerivativeCost > budget {
 				return watson9CGAnalyticLineResult{calls: calls, end: watson9CGAnalyticSearchOutOfBudget}
 			}
-			watson9CGAnalyticDerivative(xt, current.value, gt)
+			watson9CGAnalyticDerivative(xt, current.value, gt, diffs)
 			calls += watson9CGAnalyticDerivativeCost
 			current.slope, current.hasSlope = watson9CGAnalyticDot(gt, d), true
 			switch {
@@ -481,7 +713,7 @@ func watson9CGAnalyticLineSearch(x *[9]float64, fx float64, d *[9]float64, slope
 	if low.step > 0 {
 		return watson9CGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
 	}
-	return watson9CGAnalyticLineResult{calls: calls, end: watson9CGAnalyticSearchExhausted}
+	return watson9CGAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: watson9CGAnalyticSearchExhausted}
 }
 
 // watson9CGAnalyticLineResult is what a line search reports to the kernel.
@@ -582,6 +814,7 @@ const (
 	watson9CGAnalyticSearchExhausted                                     // watson9CGAnalyticStepTrials trials met none
 	watson9CGAnalyticSearchOutOfBudget                                   // the evaluation cap came first
 	watson9CGAnalyticSearchTiny                                          // every step longer than tiny failed to decrease f
+	watson9CGAnalyticSearchDiverged                                      // a fixed step's value overflowed
 )
 
 // watson9CGAnalyticAcceptLow ends a Wolfe search with its best trial, which met sufficient
@@ -647,11 +880,6 @@ func watson9CGAnalyticModelMinimizer(a, b *watson9CGAnalyticLinePoint) (t float6
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, watson9CGAnalyticFinite(t)
-}
-
-// watson9CGAnalyticSquareRoot returns √v.
-func watson9CGAnalyticSquareRoot(v float64) float64 {
-	return math.Sqrt(v)
 }
 
 // watson9CGAnalyticClampBetween returns v limited to the interval with ends a and b, in

@@ -9,11 +9,11 @@ func watson9CGCentralTestStart() [9]float64 {
 	return [9]float64{0.0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0}
 }
 
-// TestWatson9CGCentralEndsWithOutOfIterations runs Watson9CGCentral from the spec's start and asks for the status "out of iterations" that expect.status names.
-func TestWatson9CGCentralEndsWithOutOfIterations(t *testing.T) {
+// TestWatson9CGCentralEndsWithOutOfEvaluations runs Watson9CGCentral from the spec's start and asks for the status "out of evaluations" that expect.status names.
+func TestWatson9CGCentralEndsWithOutOfEvaluations(t *testing.T) {
 	r := Watson9CGCentral(watson9CGCentralTestStart())
-	if r.Status != Watson9CGCentralOutOfIterations {
-		t.Fatalf("status %v after %d iterations and %d evaluations, f = %g, x = %v", r.Status, r.Iterations, r.Evaluations, r.F, r.X)
+	if r.Status != Watson9CGCentralOutOfEvaluations {
+		t.Fatalf("status %v after %d iterations and %d evaluations, f = %g, x = %v, gradient measure %g (limit %g)", r.Status, r.Iterations, r.Evaluations, r.F, r.X, r.Gradient, r.GradientLimit)
 	}
 }
 

@@ -13,7 +13,7 @@ func watson9LBFGSCentralTestStart() [9]float64 {
 func TestWatson9LBFGSCentralEndsWithOutOfIterations(t *testing.T) {
 	r := Watson9LBFGSCentral(watson9LBFGSCentralTestStart())
 	if r.Status != Watson9LBFGSCentralOutOfIterations {
-		t.Fatalf("status %v after %d iterations and %d evaluations, f = %g, x = %v", r.Status, r.Iterations, r.Evaluations, r.F, r.X)
+		t.Fatalf("status %v after %d iterations and %d evaluations, f = %g, x = %v, gradient measure %g (limit %g)", r.Status, r.Iterations, r.Evaluations, r.F, r.X, r.Gradient, r.GradientLimit)
 	}
 }
 

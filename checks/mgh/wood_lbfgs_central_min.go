@@ -8,10 +8,10 @@ import "math"
 type WoodLBFGSCentralStatus uint8
 
 const (
-	// WoodLBFGSCentralGradientSmall: the largest gradient component fell to the gradient limit: converged.
+	// WoodLBFGSCentralGradientSmall: the gradient test holds at X: its measure, with the differences' error bound when they are used, is at most the gradient limit: converged.
 	WoodLBFGSCentralGradientSmall WoodLBFGSCentralStatus = iota + 1
-	// WoodLBFGSCentralStepTiny: every component of the last step was at most the step limit times |xᵢ| + 1, or no step above the step limit decreased f: converged.
-	WoodLBFGSCentralStepTiny
+	// WoodLBFGSCentralStalled: the step test ended the run, or no step longer than the step limit decreased f, while the gradient test still fails: X is as far as the run could get, not a verified minimizer.
+	WoodLBFGSCentralStalled
 	// WoodLBFGSCentralOutOfIterations: the iteration limit came first.
 	WoodLBFGSCentralOutOfIterations
 	// WoodLBFGSCentralOutOfEvaluations: the next objective call would have exceeded the evaluation cap.
@@ -22,8 +22,10 @@ const (
 	WoodLBFGSCentralNonFiniteStart
 	// WoodLBFGSCentralNonFiniteGradient: a gradient component became NaN or ±Inf.
 	WoodLBFGSCentralNonFiniteGradient
-	// WoodLBFGSCentralNoDecrease: no step longer than the step limit decreased f, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test).
+	// WoodLBFGSCentralNoDecrease: the line search found no acceptable step, and f rose in proportion to the step where the analytic gradient predicted a fall: the gradient is probably wrong (see the generated gradient test).
 	WoodLBFGSCentralNoDecrease
+	// WoodLBFGSCentralDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
+	WoodLBFGSCentralDiverged
 )
 
 // String describes the status in a few words.
@@ -31,8 +33,8 @@ func (s WoodLBFGSCentralStatus) String() string {
 	switch s {
 	case WoodLBFGSCentralGradientSmall:
 		return "gradient small"
-	case WoodLBFGSCentralStepTiny:
-		return "step tiny"
+	case WoodLBFGSCentralStalled:
+		return "stalled"
 	case WoodLBFGSCentralOutOfIterations:
 		return "out of iterations"
 	case WoodLBFGSCentralOutOfEvaluations:
@@ -45,28 +47,32 @@ func (s WoodLBFGSCentralStatus) String() string {
 		return "non-finite gradient"
 	case WoodLBFGSCentralNoDecrease:
 		return "no decrease"
+	case WoodLBFGSCentralDiverged:
+		return "diverged"
 	default:
 		return "unknown status"
 	}
 }
 
-// Converged reports whether a convergence test, on the gradient or on the step, ended the run; limits, line-search failure and non-finite values are not convergence.
+// Converged reports whether the gradient test holds at X (Gradient ≤ GradientLimit in the result): only then is X a verified stationary point; a stall, the limits, line-search failure and non-finite values are not convergence.
 func (s WoodLBFGSCentralStatus) Converged() bool {
-	return s == WoodLBFGSCentralGradientSmall || s == WoodLBFGSCentralStepTiny
+	return s == WoodLBFGSCentralGradientSmall
 }
 
 // WoodLBFGSCentralResult is where WoodLBFGSCentral stopped and why.
 type WoodLBFGSCentralResult struct {
-	X           [4]float64             // the last accepted point, the best one found
-	F           float64                // the objective at X
-	Iterations  int                    // accepted steps
-	Evaluations int                    // objective calls, finite differences included
-	Status      WoodLBFGSCentralStatus // why the run stopped; check Status.Converged()
+	X             [4]float64             // where the gradient test held, when converged; else the lowest point seen
+	F             float64                // the objective at X
+	Gradient      float64                // the gradient test's measure at X, the differences' error bound included; NaN when the run ended before the gradient at X was known
+	GradientLimit float64                // the limit Gradient was held to: Limits.Gradient, raised with differences to ten times the measure of their error bound; converged runs have Gradient ≤ GradientLimit
+	Iterations    int                    // accepted steps
+	Evaluations   int                    // objective calls, finite differences included
+	Status        WoodLBFGSCentralStatus // why the run stopped; check Status.Converged()
 }
 
 // WoodLBFGSCentralLimits are the stop limits of one run. Pass them to WoodLBFGSCentralWithLimits to change them at run time; WoodLBFGSCentralDefaultLimits returns the spec's.
 type WoodLBFGSCentralLimits struct {
-	Gradient    float64 // stop when the largest |∂f/∂xᵢ| is at most this
+	Gradient    float64 // stop, converged, when the gradient test's measure is at most this (with differences, at most ten times the measure of their error bound where that is larger)
 	Step        float64 // stop when every |Δxᵢ| is at most this·(|xᵢ| + 1)
 	Iterations  int     // most accepted steps
 	Evaluations int     // hard cap on objective calls, finite differences included; never exceeded
@@ -86,11 +92,12 @@ func WoodLBFGSCentralDefaultLimits() WoodLBFGSCentralLimits {
 //
 // Direction lbfgs: limited-memory BFGS: the last `memory` pairs, two-loop recursion (2·memory·dim numbers).
 // Step rule wolfe: bracket and zoom until sufficient decrease and the curvature condition hold.
-// Derivative central: central differences: 2·dim objective calls per gradient, error O(u^(2/3)).
+// Derivative central: central differences: 2·dim objective calls per gradient, intervals from the objective's curvature, error O(u^(2/3)).
+// Gradient test relative: max over i of (|∂f/∂xᵢ| + eᵢ)·max(|xᵢ|, 1)/max(|f(x)|, 1), eᵢ the error bound of differences (0 for an analytic gradient).
 // Constants: initial 1.0, c1 0.0001, c2 0.9, at most 48 trials per line search, memory 5 pairs.
-// Default stop: largest gradient component ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
+// Default stop: gradient measure ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
 //
-// Worst case: 200000 objective calls, 8 of them per gradient (the evaluation cap; the iteration limit alone would allow 2160009). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
+// Worst case: 200000 objective calls, 8 of them per gradient and 16 per choice of the difference intervals (at the start and before each convergence is confirmed) (the evaluation cap; the iteration limit alone would allow 2320489). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
 func WoodLBFGSCentral(x0 [4]float64) WoodLBFGSCentralResult {
 	return WoodLBFGSCentralWithLimits(x0, WoodLBFGSCentralDefaultLimits())
@@ -100,11 +107,13 @@ func WoodLBFGSCentral(x0 [4]float64) WoodLBFGSCentralResult {
 func WoodLBFGSCentralWithLimits(x0 [4]float64, limits WoodLBFGSCentralLimits) WoodLBFGSCentralResult {
 	out := woodLBFGSCentralMinimize(x0, limits)
 	return WoodLBFGSCentralResult{
-		Evaluations: out.evaluations,
-		F:           out.f,
-		Iterations:  out.iterations,
-		Status:      out.status,
-		X:           out.x,
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
 	}
 }
 
@@ -118,27 +127,40 @@ const (
 	woodLBFGSCentralDerivativeCost = 8                      // objective calls per gradient
 	woodLBFGSCentralUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
 	woodLBFGSCentralLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
-	woodLBFGSCentralCentralScale   = 4.806217383937352e-06  // ∛u, central-difference step scale (Nocedal & Wright 2006, §8.1)
 )
 
 // woodLBFGSCentralMinimize runs the descent loop from x0 within lim:
 //
-//  1. stop when the largest gradient component is at most lim.Gradient;
+//  1. stop, converged, when the gradient measure (woodLBFGSCentralGradientMeasure, error
+//     bound of differences included) is at most the limit: lim.Gradient,
+//     or three times the measure of the differences' error bound when that is
+//     larger, so that the limit can be met (the floor the test can see);
+//     differences confirm it first (woodLBFGSCentralConfirmGradient);
 //  2. stop after lim.Iterations accepted steps;
 //  3. take the direction d, falling back to steepest descent when ∇fᵀd is
 //     not negative;
-//  4. search along d; stop when no trial is acceptable, or when only
-//     steps shorter than the step limit are left to try (converged,
-//     unless f contradicts an analytic gradient: no decrease);
+//  4. search along d; stop when no trial is acceptable or only steps
+//     shorter than the step limit are left to try: stalled, or no
+//     decrease when f contradicts an analytic gradient (see woodLBFGSCentralRiseTrend);
 //  5. move, refresh the gradient, let the direction learn from the step;
-//  6. stop when every |Δx_i| is at most lim.Step·(|x_i| + 1).
+//  6. stop, stalled, when every |Δx_i| is at most lim.Step·(|x_i| + 1) while
+//     the gradient test still fails. At a stall the run settles first
+//     (settle): the error bound gains the rounding floor of x, with
+//     differences confirmed, and the limit rises to ten times the larger
+//     of lim.Gradient and the bound's measure; a gradient within that is
+//     as small as this point can show, and the run is converged with that
+//     limit, which it reports.
 //
-// Before every objective call it checks that lim.Evaluations leaves room
-// for it, so the cap is never exceeded. A NaN or ±Inf at the start or in a
+// Only step 1 is convergence: the first-order test holds at X. Before
+// every objective call it checks that lim.Evaluations leaves room for it,
+// so the cap is never exceeded. A NaN or ±Inf at the start or in a
 // gradient ends the run with its own status; a non-finite trial value is
-// rejected by the line search like any failed trial.
+// rejected by the line search like any failed trial. X is the best point
+// seen unless the run converged, which it did at X. A fixed step whose
+// value overflows, or that raised f above f(x0) at eight steps in a row,
+// ends the run as diverged (common practice for a divergence test).
 func woodLBFGSCentralMinimize(x0 [4]float64, lim WoodLBFGSCentralLimits) woodLBFGSCentralOutcome {
-	out := woodLBFGSCentralOutcome{x: x0, status: WoodLBFGSCentralOutOfEvaluations}
+	out := woodLBFGSCentralOutcome{x: x0, status: WoodLBFGSCentralOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
@@ -149,11 +171,14 @@ func woodLBFGSCentralMinimize(x0 [4]float64, lim WoodLBFGSCentralLimits) woodLBF
 		out.status = WoodLBFGSCentralNonFiniteStart
 		return out
 	}
-	if out.evaluations+woodLBFGSCentralDerivativeCost > lim.Evaluations {
+	var diffs woodLBFGSCentralDifferences
+	calls, ok := woodLBFGSCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
+	out.evaluations += calls
+	if !ok || out.evaluations+woodLBFGSCentralDerivativeCost > lim.Evaluations {
 		return out
 	}
-	var g [4]float64
-	woodLBFGSCentralDerivative(&x, fx, &g)
+	var g, e [4]float64
+	woodLBFGSCentralDerivative(&x, fx, &g, &diffs)
 	out.evaluations += woodLBFGSCentralDerivativeCost
 
 	if !woodLBFGSCentralFiniteVec(&g) {
@@ -164,21 +189,76 @@ func woodLBFGSCentralMinimize(x0 [4]float64, lim WoodLBFGSCentralLimits) woodLBF
 	dir.reset()
 	var d, xt, gt, s, y [4]float64
 	t, slope := float64(woodLBFGSCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
+	best := out                                                  // the lowest point seen, for runs that end unconverged
+	start, rises := fx, 0                                        // f(x0), and consecutive accepted steps that raised f above it
+	confirmed := false                                           // whether g and e at x come from woodLBFGSCentralConfirmGradient
+	stalled := false                                             // whether the run can make no more progress at x
+	retried := -1                                                // the iteration whose stall was retried with recalibrated differences
 	for {
-		if woodLBFGSCentralMaxAbs(&g) <= lim.Gradient {
+		if !confirmed {
+			woodLBFGSCentralGradientError(&x, fx, &g, &e, &diffs)
+		}
+		measure, floor := woodLBFGSCentralGradientMeasure(&g, &e, &x, fx)
+		out.gradient, out.gradientLimit = measure, woodLBFGSCentralLarger(lim.Gradient, 3*floor)
+		if stalled {
+			// No step can make progress here: the gradient is as small as
+			// this point shows it, within ten times the limit or the floor.
+			out.gradientLimit = 10 * woodLBFGSCentralLarger(lim.Gradient, floor)
+		}
+		if out.f <= best.f {
+			best = out
+		}
+		if measure <= out.gradientLimit && (woodLBFGSCentralDerivativeCost == 0 || confirmed) {
 			out.status = WoodLBFGSCentralGradientSmall
 			return out
 		}
-		if out.iterations > 0 {
+		if measure <= out.gradientLimit {
+			// Differences pass the test: confirm it with intervals chosen
+			// here and an error measured rather than modelled.
+			calls, ok := woodLBFGSCentralConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(WoodLBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !woodLBFGSCentralFiniteVec(&g) {
+				return best.ending(WoodLBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			confirmed = true
+			continue
+		}
+		if stalled {
+			// Settled and still above the limit: stalled, unless
+			// differences, whose intervals were just chosen here, can
+			// search once more with the better gradient.
+			if woodLBFGSCentralDerivativeCost == 0 {
+				return best.ending(WoodLBFGSCentralStalled, out.iterations, out.evaluations)
+			}
+			stalled, retried = false, out.iterations
+		}
+		// At a stall, settle first: the run is converged if the gradient
+		// is zero to the rounding of x (and, with differences, to their
+		// accuracy, confirmed); see settle.
+		canSettle := retried != out.iterations
+		if out.iterations > 0 && canSettle {
 			if woodLBFGSCentralStepWithin(&s, &x, lim.Step) {
-				out.status = WoodLBFGSCentralStepTiny
-				return out
+				calls, ok := woodLBFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+				out.evaluations += calls
+				if !ok {
+					return best.ending(WoodLBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+				}
+				if !woodLBFGSCentralFiniteVec(&g) {
+					return best.ending(WoodLBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
+				}
+				stalled, confirmed = true, true
+				continue
+			}
+			if rises >= 8 {
+				return best.ending(WoodLBFGSCentralDiverged, out.iterations, out.evaluations)
 			}
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
-			out.status = WoodLBFGSCentralOutOfIterations
-			return out
+			return best.ending(WoodLBFGSCentralOutOfIterations, out.iterations, out.evaluations)
 		}
 		dir.compute(&g, &d)
 		now := woodLBFGSCentralDot(&g, &d)
@@ -192,50 +272,70 @@ func woodLBFGSCentralMinimize(x0 [4]float64, lim WoodLBFGSCentralLimits) woodLBF
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := woodLBFGSCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := woodLBFGSCentralLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt)
+		found := woodLBFGSCentralLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case woodLBFGSCentralSearchOutOfBudget:
-			return out
-		case woodLBFGSCentralSearchExhausted:
-			out.status = WoodLBFGSCentralNoAcceptableStep
-			return out
-		case woodLBFGSCentralSearchTiny:
-			// Converged to the step limit: no step the step test would
-			// reject decreases f. Not so when an analytic gradient is
-			// contradicted by f rising in proportion to the step (see
-			// woodLBFGSCentralRiseTrend, which never reports that for differences).
-			out.status = WoodLBFGSCentralStepTiny
-			if found.rising {
-				out.status = WoodLBFGSCentralNoDecrease
+			return best.ending(WoodLBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+		case woodLBFGSCentralSearchDiverged:
+			return best.ending(WoodLBFGSCentralDiverged, out.iterations, out.evaluations)
+		case woodLBFGSCentralSearchExhausted, woodLBFGSCentralSearchTiny:
+			// No acceptable step. When an analytic gradient predicted a
+			// fall that f contradicted in proportion to the step, the
+			// gradient is probably wrong (see woodLBFGSCentralRiseTrend, which never
+			// reports that for differences); otherwise the search stalled
+			// below the step limit, or ran out of trials.
+			end := WoodLBFGSCentralNoAcceptableStep
+			switch {
+			case found.rising:
+				end = WoodLBFGSCentralNoDecrease
+			case found.end == woodLBFGSCentralSearchTiny && canSettle:
+				calls, ok := woodLBFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+				out.evaluations += calls
+				if !ok {
+					return best.ending(WoodLBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+				}
+				if !woodLBFGSCentralFiniteVec(&g) {
+					return best.ending(WoodLBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
+				}
+				stalled, confirmed = true, true
+				continue
+			case found.end == woodLBFGSCentralSearchTiny:
+				end = WoodLBFGSCentralStalled
 			}
-			return out
+			return best.ending(end, out.iterations, out.evaluations)
 		}
 		if !woodLBFGSCentralFiniteVec(&xt) {
-			out.status = WoodLBFGSCentralNoAcceptableStep // the accepted trial overflowed x
-			return out
+			return best.ending(WoodLBFGSCentralNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
 		}
 		if !found.gradient {
 			if out.evaluations+woodLBFGSCentralDerivativeCost > lim.Evaluations {
-				if found.value < fx { // keep a better point even without its gradient
-					out.x, out.f = xt, found.value
+				if found.value < best.f { // keep a better point even without its gradient
+					best.x, best.f, best.gradient = xt, found.value, math.NaN()
 					out.iterations++
 				}
-				return out
+				return best.ending(WoodLBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			woodLBFGSCentralDerivative(&xt, found.value, &gt)
+			woodLBFGSCentralDerivative(&xt, found.value, &gt, &diffs)
 			out.evaluations += woodLBFGSCentralDerivativeCost
 		}
 		out.iterations++
 		woodLBFGSCentralDifference(&s, &xt, &x)
 		woodLBFGSCentralDifference(&y, &gt, &g)
-		x, fx, g = xt, found.value, gt
-		out.x, out.f = x, fx
+		if found.value > fx && found.value > start {
+			rises++
+		} else {
+			rises = 0
+		}
+		x, fx, g, confirmed = xt, found.value, gt, false
+		out.x, out.f, out.gradient = x, fx, math.NaN()
 		t, slope = found.step, now
 
 		if !woodLBFGSCentralFiniteVec(&g) {
-			out.status = WoodLBFGSCentralNonFiniteGradient
-			return out
+			if out.f < best.f {
+				best = out
+			}
+			return best.ending(WoodLBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
 		}
 	}
 }
@@ -243,11 +343,19 @@ func woodLBFGSCentralMinimize(x0 [4]float64, lim WoodLBFGSCentralLimits) woodLBF
 // woodLBFGSCentralOutcome is the kernel's report; the generated entry point copies it into
 // the spec's result type.
 type woodLBFGSCentralOutcome struct {
-	x           [4]float64
-	f           float64
-	iterations  int
-	evaluations int
-	status      WoodLBFGSCentralStatus
+	x             [4]float64
+	f             float64
+	gradient      float64 // the stop test's measure at x, error bound included; NaN when not known
+	gradientLimit float64 // the limit that measure was held to
+	iterations    int
+	evaluations   int
+	status        WoodLBFGSCentralStatus
+}
+
+// ending is the best point seen, reported with the run's end and counts.
+func (o woodLBFGSCentralOutcome) ending(end WoodLBFGSCentralStatus, iterations, evaluations int) woodLBFGSCentralOutcome {
+	o.status, o.iterations, o.evaluations = end, iterations, evaluations
+	return o
 }
 
 // woodLBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
@@ -272,26 +380,81 @@ func woodLBFGSCentralFiniteVec(x *[4]float64) bool {
 	return true
 }
 
-// woodLBFGSCentralDerivative approximates the gradient by central differences,
+// woodLBFGSCentralDifferences is what the difference gradients learn from the objective
+// at the start: for each coordinate i, the interval as a multiple of
+// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
+// forward differences, |f‴| for central ones). The analytic gradient
+// leaves it unused.
+type woodLBFGSCentralDifferences struct {
+	ratio     [4]float64
+	curvature [4]float64
+	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see woodLBFGSCentralRoundingFloor)
+}
+
+// woodLBFGSCentralCalibrate chooses each central-difference interval from the
+// third derivative along e_i, estimated at x with four probes at ±h̄ and
+// ±2h̄, h̄ = u^(1/4)·s, s = max(1, |x_i|):
 //
-//	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),  h_i = ∛u · max(1, |x_i|),
+//	f‴ ≈ (f(x + 2h̄eᵢ) − 2f(x + h̄eᵢ) + 2f(x − h̄eᵢ) − f(x − 2h̄eᵢ)) / (2h̄³),
+//	h_i  = ∛(3ε_A / |f‴|)
 //
-// with error O(h²) (Nocedal & Wright 2006, eq. 8.7 and §8.1). It costs
-// 2·dim objective calls; fx is not needed.
-func woodLBFGSCentralDerivative(x *[4]float64, fx float64, g *[4]float64) {
+// the interval that minimizes the truncation error h²|f‴|/6 plus the
+// rounding error ε_A/h of a central difference (Nocedal & Wright 2006,
+// §8.1, with the third-derivative estimate of the forward interval's
+// procedure of Gill, Murray, Saunders & Wright 1983 carried one order
+// up), with ε_A from woodLBFGSCentralNoiseLevel and the probes' slopes. An estimate below
+// its rounding noise 3ε_A/h̄³ is replaced by that noise, and h_i is kept
+// within [64u·s, h̄]. It costs four objective calls per unknown.
+func woodLBFGSCentralCalibrate(x *[4]float64, fx float64, diffs *woodLBFGSCentralDifferences, budget int) (int, bool) {
 	probe := *x
+	var slope [4]float64
+	scale := woodLBFGSCentralAbs(fx)
+	quarter := woodLBFGSCentralSquareRoot(woodLBFGSCentralSquareRoot(woodLBFGSCentralUnitRoundoff)) // u^(1/4)
 	for i := range probe {
+		if 4*(i+1) > budget {
+			return 4 * i, false
+		}
 		xi := probe[i]
-		h := woodLBFGSCentralCentralScale * woodLBFGSCentralLarger(1, woodLBFGSCentralAbs(xi)) // N&W §8.1: h = ∛u·max(1,|x_i|)
-		up := xi + h
-		down := xi - h
-		probe[i] = up
-		fUp := Wood(&probe)
-		probe[i] = down
-		fDown := Wood(&probe)
-		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+		bar := quarter * woodLBFGSCentralLarger(1, woodLBFGSCentralAbs(xi))
+		var f [4]float64
+		for k, m := range [4]float64{2, 1, -1, -2} {
+			probe[i], _ = woodLBFGSCentralProbeStep(xi, m*bar)
+			f[k] = Wood(&probe)
+			scale = woodLBFGSCentralLarger(scale, woodLBFGSCentralMagnitude(f[k]))
+		}
 		probe[i] = xi
+		if woodLBFGSCentralFinite(f[0]) && woodLBFGSCentralFinite(f[1]) && woodLBFGSCentralFinite(f[2]) && woodLBFGSCentralFinite(f[3]) {
+			diffs.curvature[i] = woodLBFGSCentralAbs(f[0]-2*f[1]+2*f[2]-f[3]) / (2 * bar * bar * bar)
+			diffs.second[i] = woodLBFGSCentralAbs(f[1]-2*fx+f[2]) / (bar * bar)
+			slope[i] = (f[1] - f[2]) / (2 * bar)
+		}
 	}
+	noise := woodLBFGSCentralNoiseLevel(x, scale, &slope)
+	for i := range probe {
+		s := woodLBFGSCentralLarger(1, woodLBFGSCentralAbs(probe[i]))
+		bar := quarter * s
+		third := woodLBFGSCentralLarger(diffs.curvature[i], 3*noise/(bar*bar*bar))
+		h := bar
+		if third > 0 {
+			h = woodLBFGSCentralCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+		}
+		diffs.ratio[i] = woodLBFGSCentralClampBetween(h, 64*woodLBFGSCentralUnitRoundoff*s, bar) / s
+		diffs.curvature[i] = third
+	}
+	return 4 * len(probe), true
+}
+
+// woodLBFGSCentralAbs returns |v|.
+func woodLBFGSCentralAbs(v float64) float64 {
+	if v < 0 {
+		return -v
+	}
+	return v
+}
+
+// woodLBFGSCentralSquareRoot returns √v.
+func woodLBFGSCentralSquareRoot(v float64) float64 {
+	return math.Sqrt(v)
 }
 
 // woodLBFGSCentralLarger returns the larger of a and b, or a NaN among them. The builtin
@@ -304,12 +467,81 @@ func woodLBFGSCentralLarger(a, b float64) float64 {
 	return b
 }
 
-// woodLBFGSCentralAbs returns |v|.
-func woodLBFGSCentralAbs(v float64) float64 {
-	if v < 0 {
-		return -v
+// woodLBFGSCentralProbeStep returns x_i moved by h, and the step actually representable.
+func woodLBFGSCentralProbeStep(xi, h float64) (float64, float64) {
+	moved := xi + h
+	return moved, moved - xi
+}
+
+// woodLBFGSCentralMagnitude is |v| for a finite v and 0 otherwise: a probe that fell
+// outside the objective's domain says nothing about its rounding.
+func woodLBFGSCentralMagnitude(v float64) float64 {
+	if !woodLBFGSCentralFinite(v) {
+		return 0
+	}
+	return woodLBFGSCentralAbs(v)
+}
+
+// woodLBFGSCentralNoiseLevel is the absolute error assumed in a computed value fx of the
+// objective at x, where its gradient is about g:
+//
+//	ε_A = 4u·(|fx| + Σᵢ |gᵢ·xᵢ|),
+//
+// a few roundings of the result plus the change that rounding each xᵢ by
+// a relative u makes in f, which is what an objective computed with
+// cancellation inside (y − x² in Rosenbrock's valley) shows near a zero
+// minimum, where u·|f| alone vanishes (the first-order error of
+// evaluating f at a rounded x; the factor 4 is common practice; Gill,
+// Murray, Saunders & Wright 1983 leave ε_A to the user).
+func woodLBFGSCentralNoiseLevel(x *[4]float64, fx float64, g *[4]float64) float64 {
+	sum := woodLBFGSCentralAbs(fx)
+	for i := range x {
+		sum += woodLBFGSCentralAbs(g[i] * x[i])
+	}
+	return 4 * woodLBFGSCentralUnitRoundoff * sum
+}
+
+// woodLBFGSCentralCubeRoot returns ∛v for v ≥ 0.
+func woodLBFGSCentralCubeRoot(v float64) float64 {
+	return math.Cbrt(v)
+}
+
+// woodLBFGSCentralClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func woodLBFGSCentralClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
 	}
 	return v
+}
+
+// woodLBFGSCentralDerivative approximates the gradient by central differences,
+//
+//	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),
+//
+// with the intervals woodLBFGSCentralCalibrate chose, h_i = ratio_i·max(1, |x_i|)
+// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls; fx is
+// not needed.
+func woodLBFGSCentralDerivative(x *[4]float64, fx float64, g *[4]float64, diffs *woodLBFGSCentralDifferences) {
+	probe := *x
+	for i := range probe {
+		xi := probe[i]
+		h := diffs.ratio[i] * woodLBFGSCentralLarger(1, woodLBFGSCentralAbs(xi))
+		up, _ := woodLBFGSCentralProbeStep(xi, h)
+		down, _ := woodLBFGSCentralProbeStep(xi, -h)
+		probe[i] = up
+		fUp := Wood(&probe)
+		probe[i] = down
+		fDown := Wood(&probe)
+		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+		probe[i] = xi
+	}
 }
 
 // woodLBFGSCentralDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
@@ -427,15 +659,67 @@ func woodLBFGSCentralCurvatureSafe(s, y *[4]float64) bool {
 	return sy > 0 && (sy/woodLBFGSCentralDot(s, s))*(sy/woodLBFGSCentralDot(y, y)) > woodLBFGSCentralUnitRoundoff
 }
 
-// woodLBFGSCentralMaxAbs returns the largest |x_i|, the infinity norm.
-func woodLBFGSCentralMaxAbs(x *[4]float64) float64 {
-	var m float64
-	for i := range x {
-		if a := woodLBFGSCentralAbs(x[i]); a > m || a != a {
-			m = a
-		}
+// woodLBFGSCentralGradientError bounds each central difference's error by twice its
+// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
+// in forwardError).
+func woodLBFGSCentralGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *woodLBFGSCentralDifferences) {
+	noise := woodLBFGSCentralNoiseLevel(x, fx, g)
+	for i := range e {
+		h := diffs.ratio[i] * woodLBFGSCentralLarger(1, woodLBFGSCentralAbs(x[i]))
+		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
 	}
-	return m
+}
+
+// woodLBFGSCentralGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func woodLBFGSCentralGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
+	scale := woodLBFGSCentralLarger(woodLBFGSCentralAbs(fx), 1)
+	for i := range g {
+		w := woodLBFGSCentralLarger(woodLBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = woodLBFGSCentralLarger(measure, (woodLBFGSCentralAbs(g[i])+e[i])*w)
+		floor = woodLBFGSCentralLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// woodLBFGSCentralConfirmGradient recomputes a difference gradient at x before the run is
+// called converged there: it chooses the intervals again from the
+// curvature at x (calibrate), computes g with them and with twice them,
+// and bounds each component's error by the model (woodLBFGSCentralGradientError) plus
+// three times the change the doubling made. That change measures what the
+// model can miss, truncation from curvature that varies and rounding
+// noise above 4u·|f|; as one sample of that noise it is tripled
+// (Richardson's idea of comparing two intervals; the factor is common
+// practice for a posteriori error estimates). It costs a calibration and two
+// gradients, and returns the calls spent and false when budget ran out
+// first.
+func woodLBFGSCentralConfirmGradient(x *[4]float64, fx float64, g, e *[4]float64, diffs *woodLBFGSCentralDifferences, budget int) (int, bool) {
+	calls, ok := woodLBFGSCentralCalibrate(x, fx, diffs, budget)
+	if !ok || calls+2*woodLBFGSCentralDerivativeCost > budget {
+		return calls, false
+	}
+	wide := *diffs
+	for i := range wide.ratio {
+		wide.ratio[i] *= 2
+	}
+	var doubled [4]float64
+	woodLBFGSCentralDerivative(x, fx, g, diffs)
+	woodLBFGSCentralDerivative(x, fx, &doubled, &wide)
+	woodLBFGSCentralGradientError(x, fx, g, e, diffs)
+	for i := range e {
+		e[i] += 3 * woodLBFGSCentralAbs(g[i]-doubled[i])
+	}
+	return calls + 2*woodLBFGSCentralDerivativeCost, true
 }
 
 // woodLBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
@@ -448,6 +732,43 @@ func woodLBFGSCentralStepWithin(s, x *[4]float64, tol float64) bool {
 		}
 	}
 	return true
+}
+
+// woodLBFGSCentralSettle prepares the final verdict at a stall: with differences it
+// confirms the gradient (woodLBFGSCentralConfirmGradient), then it adds to each error
+// bound the rounding floor of x (woodLBFGSCentralRoundingFloor). It returns the objective
+// calls spent and false when budget ran out first.
+func woodLBFGSCentralSettle(x *[4]float64, fx float64, g, e *[4]float64, diffs *woodLBFGSCentralDifferences, budget int) (int, bool) {
+	calls := 0
+	if woodLBFGSCentralDerivativeCost > 0 {
+		spent, ok := woodLBFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
+	}
+	woodLBFGSCentralRoundingFloor(x, g, e, diffs)
+	return calls, true
+}
+
+// woodLBFGSCentralRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
+// that moving xᵢ by a few of its rounding units makes in gᵢ:
+// where no step the step test resolves decreases f, a gradient that small
+// is zero to the rounding of x (the resolution of x in floating point,
+// common practice). It is added only at a stall, so a gradient far above
+// it still ends the run as stalled.
+func woodLBFGSCentralRoundingFloor(x, g, e *[4]float64, diffs *woodLBFGSCentralDifferences) {
+	var h [4]float64
+	woodLBFGSCentralDiagonalCurvature(x, g, diffs, &h)
+	for i := range e {
+		e[i] += 4 * woodLBFGSCentralUnitRoundoff * woodLBFGSCentralAbs(x[i]) * h[i]
+	}
+}
+
+// woodLBFGSCentralDiagonalCurvature takes each |f″| along eᵢ from the differences' last
+// calibration, which woodLBFGSCentralConfirmGradient has just made at x.
+func woodLBFGSCentralDiagonalCurvature(x, g *[4]float64, diffs *woodLBFGSCentralDifferences, h *[4]float64) {
+	*h = diffs.second
 }
 
 // woodLBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
@@ -486,7 +807,7 @@ func woodLBFGSCentralTinyStep(x, d *[4]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func woodLBFGSCentralLineSearch(x *[4]float64, fx float64, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64) woodLBFGSCentralLineResult {
+func woodLBFGSCentralLineSearch(x *[4]float64, fx float64, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *woodLBFGSCentralDifferences) woodLBFGSCentralLineResult {
 	low := woodLBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high woodLBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                // ∇f at low, kept for accepting low from a collapsed bracket
@@ -518,7 +839,7 @@ func woodLBFGSCentralLineSearch(x *[4]float64, fx float64, d *[4]float64, slope,
 			if calls+woodLBFGSCentralDerivativeCost > budget {
 				return woodLBFGSCentralLineResult{calls: calls, end: woodLBFGSCentralSearchOutOfBudget}
 			}
-			woodLBFGSCentralDerivative(xt, current.value, gt)
+			woodLBFGSCentralDerivative(xt, current.value, gt, diffs)
 			calls += woodLBFGSCentralDerivativeCost
 			current.slope, current.hasSlope = woodLBFGSCentralDot(gt, d), true
 			switch {
@@ -543,7 +864,7 @@ func woodLBFGSCentralLineSearch(x *[4]float64, fx float64, d *[4]float64, slope,
 	if low.step > 0 {
 		return woodLBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
 	}
-	return woodLBFGSCentralLineResult{calls: calls, end: woodLBFGSCentralSearchExhausted}
+	return woodLBFGSCentralLineResult{calls: calls, rising: trend.contradicts(), end: woodLBFGSCentralSearchExhausted}
 }
 
 // woodLBFGSCentralLineResult is what a line search reports to the kernel.
@@ -644,6 +965,7 @@ const (
 	woodLBFGSCentralSearchExhausted                                    // woodLBFGSCentralStepTrials trials met none
 	woodLBFGSCentralSearchOutOfBudget                                  // the evaluation cap came first
 	woodLBFGSCentralSearchTiny                                         // every step longer than tiny failed to decrease f
+	woodLBFGSCentralSearchDiverged                                     // a fixed step's value overflowed
 )
 
 // woodLBFGSCentralAcceptLow ends a Wolfe search with its best trial, which met sufficient
@@ -709,26 +1031,6 @@ func woodLBFGSCentralModelMinimizer(a, b *woodLBFGSCentralLinePoint) (t float64,
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, woodLBFGSCentralFinite(t)
-}
-
-// woodLBFGSCentralSquareRoot returns √v.
-func woodLBFGSCentralSquareRoot(v float64) float64 {
-	return math.Sqrt(v)
-}
-
-// woodLBFGSCentralClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func woodLBFGSCentralClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // woodLBFGSCentralExpandTrial picks a larger trial after current met sufficient decrease

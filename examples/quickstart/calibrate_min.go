@@ -143,9 +143,12 @@ const (
 //     decrease when f contradicts an analytic gradient (see calibrateRiseTrend);
 //  5. move, refresh the gradient, let the direction learn from the step;
 //  6. stop, stalled, when every |Δx_i| is at most lim.Step·(|x_i| + 1) while
-//     the gradient test still fails. A stall with differences whose
-//     gradient measure is within ten times their error's measure is
-//     convergence to their accuracy, once confirmed, with that limit.
+//     the gradient test still fails. At a stall the run settles first
+//     (settle): the error bound gains the rounding floor of x, with
+//     differences confirmed, and the limit rises to ten times the larger
+//     of lim.Gradient and the bound's measure; a gradient within that is
+//     as small as this point can show, and the run is converged with that
+//     limit, which it reports.
 //
 // Only step 1 is convergence: the first-order test holds at X. Before
 // every objective call it checks that lim.Evaluations leaves room for it,
@@ -195,11 +198,12 @@ func calibrateMinimize(x0 [2]float64, lim CalibrateLimits) calibrateOutcome {
 			calibrateGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := calibrateGradientMeasure(&g, &e, &x, fx)
-		margin := float64(3) // the limit differences can be held to, in multiples of their error's measure
+		out.gradient, out.gradientLimit = measure, calibrateLarger(lim.Gradient, 3*floor)
 		if stalled {
-			margin = 10
+			// No step can make progress here: the gradient is as small as
+			// this point shows it, within ten times the limit or the floor.
+			out.gradientLimit = 10 * calibrateLarger(lim.Gradient, floor)
 		}
-		out.gradient, out.gradientLimit = measure, calibrateLarger(lim.Gradient, margin*floor)
 		if out.f <= best.f {
 			best = out
 		}
@@ -222,21 +226,30 @@ func calibrateMinimize(x0 [2]float64, lim CalibrateLimits) calibrateOutcome {
 			continue
 		}
 		if stalled {
-			// The gradient from intervals chosen here is still above the
-			// limit: search once more with it.
+			// Settled and still above the limit: stalled, unless
+			// differences, whose intervals were just chosen here, can
+			// search once more with the better gradient.
+			if calibrateDerivativeCost == 0 {
+				return best.ending(CalibrateStalled, out.iterations, out.evaluations)
+			}
 			stalled, retried = false, out.iterations
 		}
-		// A stall with differences whose gradient is within ten times its
-		// error bound's measure of zero is convergence to their accuracy,
-		// once confirmed: no step can show progress below their error.
-		lenient := calibrateDerivativeCost > 0 && retried != out.iterations && measure <= calibrateLarger(lim.Gradient, 10*floor)
-		if out.iterations > 0 && retried != out.iterations {
+		// At a stall, settle first: the run is converged if the gradient
+		// is zero to the rounding of x (and, with differences, to their
+		// accuracy, confirmed); see settle.
+		canSettle := retried != out.iterations
+		if out.iterations > 0 && canSettle {
 			if calibrateStepWithin(&s, &x, lim.Step) {
-				if lenient {
-					stalled, confirmed = true, false
-					continue
+				calls, ok := calibrateSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+				out.evaluations += calls
+				if !ok {
+					return best.ending(CalibrateOutOfEvaluations, out.iterations, out.evaluations)
 				}
-				return best.ending(CalibrateStalled, out.iterations, out.evaluations)
+				if !calibrateFiniteVec(&g) {
+					return best.ending(CalibrateNonFiniteGradient, out.iterations, out.evaluations)
+				}
+				stalled, confirmed = true, true
+				continue
 			}
 			if rises >= 8 {
 				return best.ending(CalibrateDiverged, out.iterations, out.evaluations)
@@ -275,8 +288,16 @@ func calibrateMinimize(x0 [2]float64, lim CalibrateLimits) calibrateOutcome {
 			switch {
 			case found.rising:
 				end = CalibrateNoDecrease
-			case found.end == calibrateSearchTiny && lenient:
-				stalled, confirmed = true, false
+			case found.end == calibrateSearchTiny && canSettle:
+				calls, ok := calibrateSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+				out.evaluations += calls
+				if !ok {
+					return best.ending(CalibrateOutOfEvaluations, out.iterations, out.evaluations)
+				}
+				if !calibrateFiniteVec(&g) {
+					return best.ending(CalibrateNonFiniteGradient, out.iterations, out.evaluations)
+				}
+				stalled, confirmed = true, true
 				continue
 			case found.end == calibrateSearchTiny:
 				end = CalibrateStalled
@@ -366,6 +387,7 @@ func calibrateFiniteVec(x *[2]float64) bool {
 type calibrateDifferences struct {
 	ratio     [2]float64
 	curvature [2]float64
+	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see calibrateRoundingFloor)
 }
 
 // calibrateCalibrate: an analytic gradient needs no intervals.
@@ -555,6 +577,65 @@ func calibrateStepWithin(s, x *[2]float64, tol float64) bool {
 		}
 	}
 	return true
+}
+
+// calibrateSettle prepares the final verdict at a stall: with differences it
+// confirms the gradient (calibrateConfirmGradient), then it adds to each error
+// bound the rounding floor of x (calibrateRoundingFloor). It returns the objective
+// calls spent and false when budget ran out first.
+func calibrateSettle(x *[2]float64, fx float64, g, e *[2]float64, diffs *calibrateDifferences, budget int) (int, bool) {
+	calls := 0
+	if calibrateDerivativeCost > 0 {
+		spent, ok := calibrateConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
+	}
+	calibrateRoundingFloor(x, g, e, diffs)
+	return calls, true
+}
+
+// calibrateRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
+// that moving xᵢ by a few of its rounding units makes in gᵢ:
+// where no step the step test resolves decreases f, a gradient that small
+// is zero to the rounding of x (the resolution of x in floating point,
+// common practice). It is added only at a stall, so a gradient far above
+// it still ends the run as stalled.
+func calibrateRoundingFloor(x, g, e *[2]float64, diffs *calibrateDifferences) {
+	var h [2]float64
+	calibrateDiagonalCurvature(x, g, diffs, &h)
+	for i := range e {
+		e[i] += 4 * calibrateUnitRoundoff * calibrateAbs(x[i]) * h[i]
+	}
+}
+
+// calibrateDiagonalCurvature estimates each |∂²f/∂xᵢ²| from the analytic gradient
+// at x + δᵢeᵢ, δᵢ = √u·max(1, |xᵢ|): dim gradient calls and no objective
+// call (a forward difference of the gradient, Nocedal & Wright 2006,
+// §8.1).
+func calibrateDiagonalCurvature(x, g *[2]float64, diffs *calibrateDifferences, h *[2]float64) {
+	probe := *x
+	var moved [2]float64
+	for i := range probe {
+		xi := probe[i]
+		up, delta := calibrateProbeStep(xi, calibrateSquareRoot(calibrateUnitRoundoff)*calibrateLarger(1, calibrateAbs(xi)))
+		probe[i] = up
+		CalibrationGradient(&probe, &moved)
+		h[i] = calibrateAbs(moved[i]-g[i]) / delta
+		probe[i] = xi
+	}
+}
+
+// calibrateProbeStep returns x_i moved by h, and the step actually representable.
+func calibrateProbeStep(xi, h float64) (float64, float64) {
+	moved := xi + h
+	return moved, moved - xi
+}
+
+// calibrateSquareRoot returns √v.
+func calibrateSquareRoot(v float64) float64 {
+	return math.Sqrt(v)
 }
 
 // calibrateTinyStep returns the longest t for which the step t·d from x passes the

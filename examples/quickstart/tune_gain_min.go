@@ -81,9 +81,9 @@ type TuneGainLimits struct {
 // TuneGainDefaultLimits returns the stop limits of quickstart.toml, [minimizer.stop].
 func TuneGainDefaultLimits() TuneGainLimits {
 	return TuneGainLimits{
-		Evaluations: 10000,
+		Evaluations: 200000,
 		Gradient:    1e-08,
-		Iterations:  500,
+		Iterations:  5000,
 		Step:        1e-14,
 	}
 }
@@ -95,9 +95,9 @@ func TuneGainDefaultLimits() TuneGainLimits {
 // Derivative central: central differences: 2·dim objective calls per gradient, intervals from the objective's curvature, error O(u^(2/3)).
 // Gradient test relative: max over i of (|∂f/∂xᵢ| + eᵢ)·max(|xᵢ|, 1)/max(|f(x)|, 1), eᵢ the error bound of differences (0 for an analytic gradient).
 // Constants: initial 1.0, shrink 0.5, c1 0.0001, at most 48 trials per line search.
-// Default stop: gradient measure ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 500 iterations, 10000 objective calls.
+// Default stop: gradient measure ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
 //
-// Worst case: 10000 objective calls, 2 of them per gradient and 4 per choice of the difference intervals (at the start and before each convergence is confirmed) (the evaluation cap; the iteration limit alone would allow 29065). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
+// Worst case: 200000 objective calls, 2 of them per gradient and 4 per choice of the difference intervals (at the start and before each convergence is confirmed) (the evaluation cap; the iteration limit alone would allow 290065). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
 func TuneGain(x0 float64) TuneGainResult {
 	return TuneGainWithLimits(x0, TuneGainDefaultLimits())
@@ -143,9 +143,12 @@ const (
 //     decrease when f contradicts an analytic gradient (see tuneGainRiseTrend);
 //  5. move, refresh the gradient, let the direction learn from the step;
 //  6. stop, stalled, when every |Δx_i| is at most lim.Step·(|x_i| + 1) while
-//     the gradient test still fails. A stall with differences whose
-//     gradient measure is within ten times their error's measure is
-//     convergence to their accuracy, once confirmed, with that limit.
+//     the gradient test still fails. At a stall the run settles first
+//     (settle): the error bound gains the rounding floor of x, with
+//     differences confirmed, and the limit rises to ten times the larger
+//     of lim.Gradient and the bound's measure; a gradient within that is
+//     as small as this point can show, and the run is converged with that
+//     limit, which it reports.
 //
 // Only step 1 is convergence: the first-order test holds at X. Before
 // every objective call it checks that lim.Evaluations leaves room for it,
@@ -195,11 +198,12 @@ func tuneGainMinimize(x0 [1]float64, lim TuneGainLimits) tuneGainOutcome {
 			tuneGainGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := tuneGainGradientMeasure(&g, &e, &x, fx)
-		margin := float64(3) // the limit differences can be held to, in multiples of their error's measure
+		out.gradient, out.gradientLimit = measure, tuneGainLarger(lim.Gradient, 3*floor)
 		if stalled {
-			margin = 10
+			// No step can make progress here: the gradient is as small as
+			// this point shows it, within ten times the limit or the floor.
+			out.gradientLimit = 10 * tuneGainLarger(lim.Gradient, floor)
 		}
-		out.gradient, out.gradientLimit = measure, tuneGainLarger(lim.Gradient, margin*floor)
 		if out.f <= best.f {
 			best = out
 		}
@@ -222,21 +226,30 @@ func tuneGainMinimize(x0 [1]float64, lim TuneGainLimits) tuneGainOutcome {
 			continue
 		}
 		if stalled {
-			// The gradient from intervals chosen here is still above the
-			// limit: search once more with it.
+			// Settled and still above the limit: stalled, unless
+			// differences, whose intervals were just chosen here, can
+			// search once more with the better gradient.
+			if tuneGainDerivativeCost == 0 {
+				return best.ending(TuneGainStalled, out.iterations, out.evaluations)
+			}
 			stalled, retried = false, out.iterations
 		}
-		// A stall with differences whose gradient is within ten times its
-		// error bound's measure of zero is convergence to their accuracy,
-		// once confirmed: no step can show progress below their error.
-		lenient := tuneGainDerivativeCost > 0 && retried != out.iterations && measure <= tuneGainLarger(lim.Gradient, 10*floor)
-		if out.iterations > 0 && retried != out.iterations {
+		// At a stall, settle first: the run is converged if the gradient
+		// is zero to the rounding of x (and, with differences, to their
+		// accuracy, confirmed); see settle.
+		canSettle := retried != out.iterations
+		if out.iterations > 0 && canSettle {
 			if tuneGainStepWithin(&s, &x, lim.Step) {
-				if lenient {
-					stalled, confirmed = true, false
-					continue
+				calls, ok := tuneGainSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+				out.evaluations += calls
+				if !ok {
+					return best.ending(TuneGainOutOfEvaluations, out.iterations, out.evaluations)
 				}
-				return best.ending(TuneGainStalled, out.iterations, out.evaluations)
+				if !tuneGainFiniteVec(&g) {
+					return best.ending(TuneGainNonFiniteGradient, out.iterations, out.evaluations)
+				}
+				stalled, confirmed = true, true
+				continue
 			}
 			if rises >= 8 {
 				return best.ending(TuneGainDiverged, out.iterations, out.evaluations)
@@ -275,8 +288,16 @@ func tuneGainMinimize(x0 [1]float64, lim TuneGainLimits) tuneGainOutcome {
 			switch {
 			case found.rising:
 				end = TuneGainNoDecrease
-			case found.end == tuneGainSearchTiny && lenient:
-				stalled, confirmed = true, false
+			case found.end == tuneGainSearchTiny && canSettle:
+				calls, ok := tuneGainSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+				out.evaluations += calls
+				if !ok {
+					return best.ending(TuneGainOutOfEvaluations, out.iterations, out.evaluations)
+				}
+				if !tuneGainFiniteVec(&g) {
+					return best.ending(TuneGainNonFiniteGradient, out.iterations, out.evaluations)
+				}
+				stalled, confirmed = true, true
 				continue
 			case found.end == tuneGainSearchTiny:
 				end = TuneGainStalled
@@ -366,6 +387,7 @@ func tuneGainFiniteVec(x *[1]float64) bool {
 type tuneGainDifferences struct {
 	ratio     [1]float64
 	curvature [1]float64
+	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see tuneGainRoundingFloor)
 }
 
 // tuneGainCalibrate chooses each central-difference interval from the
@@ -402,6 +424,7 @@ func tuneGainCalibrate(x *[1]float64, fx float64, diffs *tuneGainDifferences, bu
 		probe[i] = xi
 		if tuneGainFinite(f[0]) && tuneGainFinite(f[1]) && tuneGainFinite(f[2]) && tuneGainFinite(f[3]) {
 			diffs.curvature[i] = tuneGainAbs(f[0]-2*f[1]+2*f[2]-f[3]) / (2 * bar * bar * bar)
+			diffs.second[i] = tuneGainAbs(f[1]-2*fx+f[2]) / (bar * bar)
 			slope[i] = (f[1] - f[2]) / (2 * bar)
 		}
 	}
@@ -683,6 +706,43 @@ func tuneGainStepWithin(s, x *[1]float64, tol float64) bool {
 		}
 	}
 	return true
+}
+
+// tuneGainSettle prepares the final verdict at a stall: with differences it
+// confirms the gradient (tuneGainConfirmGradient), then it adds to each error
+// bound the rounding floor of x (tuneGainRoundingFloor). It returns the objective
+// calls spent and false when budget ran out first.
+func tuneGainSettle(x *[1]float64, fx float64, g, e *[1]float64, diffs *tuneGainDifferences, budget int) (int, bool) {
+	calls := 0
+	if tuneGainDerivativeCost > 0 {
+		spent, ok := tuneGainConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
+	}
+	tuneGainRoundingFloor(x, g, e, diffs)
+	return calls, true
+}
+
+// tuneGainRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
+// that moving xᵢ by a few of its rounding units makes in gᵢ:
+// where no step the step test resolves decreases f, a gradient that small
+// is zero to the rounding of x (the resolution of x in floating point,
+// common practice). It is added only at a stall, so a gradient far above
+// it still ends the run as stalled.
+func tuneGainRoundingFloor(x, g, e *[1]float64, diffs *tuneGainDifferences) {
+	var h [1]float64
+	tuneGainDiagonalCurvature(x, g, diffs, &h)
+	for i := range e {
+		e[i] += 4 * tuneGainUnitRoundoff * tuneGainAbs(x[i]) * h[i]
+	}
+}
+
+// tuneGainDiagonalCurvature takes each |f″| along eᵢ from the differences' last
+// calibration, which tuneGainConfirmGradient has just made at x.
+func tuneGainDiagonalCurvature(x, g *[1]float64, diffs *tuneGainDifferences, h *[1]float64) {
+	*h = diffs.second
 }
 
 // tuneGainTinyStep returns the longest t for which the step t·d from x passes the

@@ -81,9 +81,9 @@ type MinBowlLimits struct {
 // MinBowlDefaultLimits returns the stop limits of shapes.toml, [minimizer.stop].
 func MinBowlDefaultLimits() MinBowlLimits {
 	return MinBowlLimits{
-		Evaluations: 10000,
+		Evaluations: 200000,
 		Gradient:    0.0001,
-		Iterations:  500,
+		Iterations:  5000,
 		Step:        1e-06,
 	}
 }
@@ -95,9 +95,9 @@ func MinBowlDefaultLimits() MinBowlLimits {
 // Derivative forward: forward differences: dim objective calls per gradient, intervals from the objective's curvature, error O(√u).
 // Gradient test relative: max over i of (|∂f/∂xᵢ| + eᵢ)·max(|xᵢ|, 1)/max(|f(x)|, 1), eᵢ the error bound of differences (0 for an analytic gradient).
 // Constants: initial 1.0, c1 0.0001, c2 0.1, at most 21 trials per line search.
-// Default stop: gradient measure ≤ 0.0001, every |Δxᵢ| ≤ 1e-06·(|xᵢ| + 1), 500 iterations, 10000 objective calls.
+// Default stop: gradient measure ≤ 0.0001, every |Δxᵢ| ≤ 1e-06·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
 //
-// Worst case: 10000 objective calls, 3 of them per gradient and 6 per choice of the difference intervals (at the start and before each convergence is confirmed) (the evaluation cap; the iteration limit alone would allow 48106). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
+// Worst case: 200000 objective calls, 3 of them per gradient and 6 per choice of the difference intervals (at the start and before each convergence is confirmed) (the evaluation cap; the iteration limit alone would allow 480106). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
 func MinBowl(x0 [3]float32) MinBowlResult {
 	return MinBowlWithLimits(x0, MinBowlDefaultLimits())
@@ -144,9 +144,12 @@ const (
 //     decrease when f contradicts an analytic gradient (see minBowlRiseTrend);
 //  5. move, refresh the gradient, let the direction learn from the step;
 //  6. stop, stalled, when every |Δx_i| is at most lim.Step·(|x_i| + 1) while
-//     the gradient test still fails. A stall with differences whose
-//     gradient measure is within ten times their error's measure is
-//     convergence to their accuracy, once confirmed, with that limit.
+//     the gradient test still fails. At a stall the run settles first
+//     (settle): the error bound gains the rounding floor of x, with
+//     differences confirmed, and the limit rises to ten times the larger
+//     of lim.Gradient and the bound's measure; a gradient within that is
+//     as small as this point can show, and the run is converged with that
+//     limit, which it reports.
 //
 // Only step 1 is convergence: the first-order test holds at X. Before
 // every objective call it checks that lim.Evaluations leaves room for it,
@@ -196,11 +199,12 @@ func minBowlMinimize(x0 [3]float32, lim MinBowlLimits) minBowlOutcome {
 			minBowlGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := minBowlGradientMeasure(&g, &e, &x, fx)
-		margin := float32(3) // the limit differences can be held to, in multiples of their error's measure
+		out.gradient, out.gradientLimit = measure, minBowlLarger(lim.Gradient, 3*floor)
 		if stalled {
-			margin = 10
+			// No step can make progress here: the gradient is as small as
+			// this point shows it, within ten times the limit or the floor.
+			out.gradientLimit = 10 * minBowlLarger(lim.Gradient, floor)
 		}
-		out.gradient, out.gradientLimit = measure, minBowlLarger(lim.Gradient, margin*floor)
 		if out.f <= best.f {
 			best = out
 		}
@@ -223,21 +227,30 @@ func minBowlMinimize(x0 [3]float32, lim MinBowlLimits) minBowlOutcome {
 			continue
 		}
 		if stalled {
-			// The gradient from intervals chosen here is still above the
-			// limit: search once more with it.
+			// Settled and still above the limit: stalled, unless
+			// differences, whose intervals were just chosen here, can
+			// search once more with the better gradient.
+			if minBowlDerivativeCost == 0 {
+				return best.ending(MinBowlStalled, out.iterations, out.evaluations)
+			}
 			stalled, retried = false, out.iterations
 		}
-		// A stall with differences whose gradient is within ten times its
-		// error bound's measure of zero is convergence to their accuracy,
-		// once confirmed: no step can show progress below their error.
-		lenient := minBowlDerivativeCost > 0 && retried != out.iterations && measure <= minBowlLarger(lim.Gradient, 10*floor)
-		if out.iterations > 0 && retried != out.iterations {
+		// At a stall, settle first: the run is converged if the gradient
+		// is zero to the rounding of x (and, with differences, to their
+		// accuracy, confirmed); see settle.
+		canSettle := retried != out.iterations
+		if out.iterations > 0 && canSettle {
 			if minBowlStepWithin(&s, &x, lim.Step) {
-				if lenient {
-					stalled, confirmed = true, false
-					continue
+				calls, ok := minBowlSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+				out.evaluations += calls
+				if !ok {
+					return best.ending(MinBowlOutOfEvaluations, out.iterations, out.evaluations)
 				}
-				return best.ending(MinBowlStalled, out.iterations, out.evaluations)
+				if !minBowlFiniteVec(&g) {
+					return best.ending(MinBowlNonFiniteGradient, out.iterations, out.evaluations)
+				}
+				stalled, confirmed = true, true
+				continue
 			}
 			if rises >= 8 {
 				return best.ending(MinBowlDiverged, out.iterations, out.evaluations)
@@ -276,8 +289,16 @@ func minBowlMinimize(x0 [3]float32, lim MinBowlLimits) minBowlOutcome {
 			switch {
 			case found.rising:
 				end = MinBowlNoDecrease
-			case found.end == minBowlSearchTiny && lenient:
-				stalled, confirmed = true, false
+			case found.end == minBowlSearchTiny && canSettle:
+				calls, ok := minBowlSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+				out.evaluations += calls
+				if !ok {
+					return best.ending(MinBowlOutOfEvaluations, out.iterations, out.evaluations)
+				}
+				if !minBowlFiniteVec(&g) {
+					return best.ending(MinBowlNonFiniteGradient, out.iterations, out.evaluations)
+				}
+				stalled, confirmed = true, true
 				continue
 			case found.end == minBowlSearchTiny:
 				end = MinBowlStalled
@@ -367,6 +388,7 @@ func minBowlFiniteVec(x *[3]float32) bool {
 type minBowlDifferences struct {
 	ratio     [3]float32
 	curvature [3]float32
+	second    [3]float32 // |f″| along e_i, for the rounding floor of a stall (see minBowlRoundingFloor)
 }
 
 // minBowlCalibrate chooses each forward-difference interval from the
@@ -426,6 +448,7 @@ func minBowlCalibrate(x *[3]float32, fx float32, diffs *minBowlDifferences, budg
 		}
 		diffs.ratio[i] = minBowlClampBetween(h, 64*minBowlUnitRoundoff*s, bar) / s
 		diffs.curvature[i] = second
+		diffs.second[i] = second
 	}
 	return 2 * len(probe), true
 }
@@ -665,6 +688,43 @@ func minBowlStepWithin(s, x *[3]float32, tol float32) bool {
 		}
 	}
 	return true
+}
+
+// minBowlSettle prepares the final verdict at a stall: with differences it
+// confirms the gradient (minBowlConfirmGradient), then it adds to each error
+// bound the rounding floor of x (minBowlRoundingFloor). It returns the objective
+// calls spent and false when budget ran out first.
+func minBowlSettle(x *[3]float32, fx float32, g, e *[3]float32, diffs *minBowlDifferences, budget int) (int, bool) {
+	calls := 0
+	if minBowlDerivativeCost > 0 {
+		spent, ok := minBowlConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
+	}
+	minBowlRoundingFloor(x, g, e, diffs)
+	return calls, true
+}
+
+// minBowlRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
+// that moving xᵢ by a few of its rounding units makes in gᵢ:
+// where no step the step test resolves decreases f, a gradient that small
+// is zero to the rounding of x (the resolution of x in floating point,
+// common practice). It is added only at a stall, so a gradient far above
+// it still ends the run as stalled.
+func minBowlRoundingFloor(x, g, e *[3]float32, diffs *minBowlDifferences) {
+	var h [3]float32
+	minBowlDiagonalCurvature(x, g, diffs, &h)
+	for i := range e {
+		e[i] += 4 * minBowlUnitRoundoff * minBowlAbs(x[i]) * h[i]
+	}
+}
+
+// minBowlDiagonalCurvature takes each |f″| along eᵢ from the differences' last
+// calibration, which minBowlConfirmGradient has just made at x.
+func minBowlDiagonalCurvature(x, g *[3]float32, diffs *minBowlDifferences, h *[3]float32) {
+	*h = diffs.second
 }
 
 // minBowlTinyStep returns the longest t for which the step t·d from x passes the

@@ -81,9 +81,9 @@ type MinParabolaLimits struct {
 // MinParabolaDefaultLimits returns the stop limits of shapes.toml, [minimizer.stop].
 func MinParabolaDefaultLimits() MinParabolaLimits {
 	return MinParabolaLimits{
-		Evaluations: 10000,
+		Evaluations: 200000,
 		Gradient:    1e-08,
-		Iterations:  500,
+		Iterations:  5000,
 		Step:        1e-14,
 	}
 }
@@ -95,9 +95,9 @@ func MinParabolaDefaultLimits() MinParabolaLimits {
 // Derivative central: central differences: 2·dim objective calls per gradient, intervals from the objective's curvature, error O(u^(2/3)).
 // Gradient test relative: max over i of (|∂f/∂xᵢ| + eᵢ)·max(|xᵢ|, 1)/max(|f(x)|, 1), eᵢ the error bound of differences (0 for an analytic gradient).
 // Constants: initial 1.0, c1 0.0001, c2 0.9, at most 48 trials per line search.
-// Default stop: gradient measure ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 500 iterations, 10000 objective calls.
+// Default stop: gradient measure ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
 //
-// Worst case: 10000 objective calls, 2 of them per gradient and 4 per choice of the difference intervals (at the start and before each convergence is confirmed) (the evaluation cap; the iteration limit alone would allow 76159). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
+// Worst case: 200000 objective calls, 2 of them per gradient and 4 per choice of the difference intervals (at the start and before each convergence is confirmed) (the evaluation cap; the iteration limit alone would allow 760159). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
 func MinParabola(x0 float64) MinParabolaResult {
 	return MinParabolaWithLimits(x0, MinParabolaDefaultLimits())
@@ -143,9 +143,12 @@ const (
 //     decrease when f contradicts an analytic gradient (see minParabolaRiseTrend);
 //  5. move, refresh the gradient, let the direction learn from the step;
 //  6. stop, stalled, when every |Δx_i| is at most lim.Step·(|x_i| + 1) while
-//     the gradient test still fails. A stall with differences whose
-//     gradient measure is within ten times their error's measure is
-//     convergence to their accuracy, once confirmed, with that limit.
+//     the gradient test still fails. At a stall the run settles first
+//     (settle): the error bound gains the rounding floor of x, with
+//     differences confirmed, and the limit rises to ten times the larger
+//     of lim.Gradient and the bound's measure; a gradient within that is
+//     as small as this point can show, and the run is converged with that
+//     limit, which it reports.
 //
 // Only step 1 is convergence: the first-order test holds at X. Before
 // every objective call it checks that lim.Evaluations leaves room for it,
@@ -195,11 +198,12 @@ func minParabolaMinimize(x0 [1]float64, lim MinParabolaLimits) minParabolaOutcom
 			minParabolaGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := minParabolaGradientMeasure(&g, &e, &x, fx)
-		margin := float64(3) // the limit differences can be held to, in multiples of their error's measure
+		out.gradient, out.gradientLimit = measure, minParabolaLarger(lim.Gradient, 3*floor)
 		if stalled {
-			margin = 10
+			// No step can make progress here: the gradient is as small as
+			// this point shows it, within ten times the limit or the floor.
+			out.gradientLimit = 10 * minParabolaLarger(lim.Gradient, floor)
 		}
-		out.gradient, out.gradientLimit = measure, minParabolaLarger(lim.Gradient, margin*floor)
 		if out.f <= best.f {
 			best = out
 		}
@@ -222,21 +226,30 @@ func minParabolaMinimize(x0 [1]float64, lim MinParabolaLimits) minParabolaOutcom
 			continue
 		}
 		if stalled {
-			// The gradient from intervals chosen here is still above the
-			// limit: search once more with it.
+			// Settled and still above the limit: stalled, unless
+			// differences, whose intervals were just chosen here, can
+			// search once more with the better gradient.
+			if minParabolaDerivativeCost == 0 {
+				return best.ending(MinParabolaStalled, out.iterations, out.evaluations)
+			}
 			stalled, retried = false, out.iterations
 		}
-		// A stall with differences whose gradient is within ten times its
-		// error bound's measure of zero is convergence to their accuracy,
-		// once confirmed: no step can show progress below their error.
-		lenient := minParabolaDerivativeCost > 0 && retried != out.iterations && measure <= minParabolaLarger(lim.Gradient, 10*floor)
-		if out.iterations > 0 && retried != out.iterations {
+		// At a stall, settle first: the run is converged if the gradient
+		// is zero to the rounding of x (and, with differences, to their
+		// accuracy, confirmed); see settle.
+		canSettle := retried != out.iterations
+		if out.iterations > 0 && canSettle {
 			if minParabolaStepWithin(&s, &x, lim.Step) {
-				if lenient {
-					stalled, confirmed = true, false
-					continue
+				calls, ok := minParabolaSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+				out.evaluations += calls
+				if !ok {
+					return best.ending(MinParabolaOutOfEvaluations, out.iterations, out.evaluations)
 				}
-				return best.ending(MinParabolaStalled, out.iterations, out.evaluations)
+				if !minParabolaFiniteVec(&g) {
+					return best.ending(MinParabolaNonFiniteGradient, out.iterations, out.evaluations)
+				}
+				stalled, confirmed = true, true
+				continue
 			}
 			if rises >= 8 {
 				return best.ending(MinParabolaDiverged, out.iterations, out.evaluations)
@@ -275,8 +288,16 @@ func minParabolaMinimize(x0 [1]float64, lim MinParabolaLimits) minParabolaOutcom
 			switch {
 			case found.rising:
 				end = MinParabolaNoDecrease
-			case found.end == minParabolaSearchTiny && lenient:
-				stalled, confirmed = true, false
+			case found.end == minParabolaSearchTiny && canSettle:
+				calls, ok := minParabolaSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+				out.evaluations += calls
+				if !ok {
+					return best.ending(MinParabolaOutOfEvaluations, out.iterations, out.evaluations)
+				}
+				if !minParabolaFiniteVec(&g) {
+					return best.ending(MinParabolaNonFiniteGradient, out.iterations, out.evaluations)
+				}
+				stalled, confirmed = true, true
 				continue
 			case found.end == minParabolaSearchTiny:
 				end = MinParabolaStalled
@@ -366,6 +387,7 @@ func minParabolaFiniteVec(x *[1]float64) bool {
 type minParabolaDifferences struct {
 	ratio     [1]float64
 	curvature [1]float64
+	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see minParabolaRoundingFloor)
 }
 
 // minParabolaCalibrate chooses each central-difference interval from the
@@ -402,6 +424,7 @@ func minParabolaCalibrate(x *[1]float64, fx float64, diffs *minParabolaDifferenc
 		probe[i] = xi
 		if minParabolaFinite(f[0]) && minParabolaFinite(f[1]) && minParabolaFinite(f[2]) && minParabolaFinite(f[3]) {
 			diffs.curvature[i] = minParabolaAbs(f[0]-2*f[1]+2*f[2]-f[3]) / (2 * bar * bar * bar)
+			diffs.second[i] = minParabolaAbs(f[1]-2*fx+f[2]) / (bar * bar)
 			slope[i] = (f[1] - f[2]) / (2 * bar)
 		}
 	}
@@ -683,6 +706,43 @@ func minParabolaStepWithin(s, x *[1]float64, tol float64) bool {
 		}
 	}
 	return true
+}
+
+// minParabolaSettle prepares the final verdict at a stall: with differences it
+// confirms the gradient (minParabolaConfirmGradient), then it adds to each error
+// bound the rounding floor of x (minParabolaRoundingFloor). It returns the objective
+// calls spent and false when budget ran out first.
+func minParabolaSettle(x *[1]float64, fx float64, g, e *[1]float64, diffs *minParabolaDifferences, budget int) (int, bool) {
+	calls := 0
+	if minParabolaDerivativeCost > 0 {
+		spent, ok := minParabolaConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
+	}
+	minParabolaRoundingFloor(x, g, e, diffs)
+	return calls, true
+}
+
+// minParabolaRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
+// that moving xᵢ by a few of its rounding units makes in gᵢ:
+// where no step the step test resolves decreases f, a gradient that small
+// is zero to the rounding of x (the resolution of x in floating point,
+// common practice). It is added only at a stall, so a gradient far above
+// it still ends the run as stalled.
+func minParabolaRoundingFloor(x, g, e *[1]float64, diffs *minParabolaDifferences) {
+	var h [1]float64
+	minParabolaDiagonalCurvature(x, g, diffs, &h)
+	for i := range e {
+		e[i] += 4 * minParabolaUnitRoundoff * minParabolaAbs(x[i]) * h[i]
+	}
+}
+
+// minParabolaDiagonalCurvature takes each |f″| along eᵢ from the differences' last
+// calibration, which minParabolaConfirmGradient has just made at x.
+func minParabolaDiagonalCurvature(x, g *[1]float64, diffs *minParabolaDifferences, h *[1]float64) {
+	*h = diffs.second
 }
 
 // minParabolaTinyStep returns the longest t for which the step t·d from x passes the

@@ -81,9 +81,9 @@ type MinPlateDecreaseLimits struct {
 // MinPlateDecreaseDefaultLimits returns the stop limits of shapes.toml, [minimizer.stop].
 func MinPlateDecreaseDefaultLimits() MinPlateDecreaseLimits {
 	return MinPlateDecreaseLimits{
-		Evaluations: 10000,
+		Evaluations: 200000,
 		Gradient:    0.0001,
-		Iterations:  500,
+		Iterations:  5000,
 		Step:        1e-06,
 	}
 }
@@ -95,9 +95,9 @@ func MinPlateDecreaseDefaultLimits() MinPlateDecreaseLimits {
 // Derivative central: central differences: 2·dim objective calls per gradient, intervals from the objective's curvature, error O(u^(2/3)).
 // Gradient test relative: max over i of (|∂f/∂xᵢ| + eᵢ)·max(|xᵢ|, 1)/max(|f(x)|, 1), eᵢ the error bound of differences (0 for an analytic gradient).
 // Constants: initial 1.0, shrink 0.5, at most 21 trials per line search, trials by safeguarded quadratic/cubic interpolation.
-// Default stop: gradient measure ≤ 0.0001, every |Δxᵢ| ≤ 1e-06·(|xᵢ| + 1), 500 iterations, 10000 objective calls.
+// Default stop: gradient measure ≤ 0.0001, every |Δxᵢ| ≤ 1e-06·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
 //
-// Worst case: 10000 objective calls, 4 of them per gradient and 8 per choice of the difference intervals (at the start and before each convergence is confirmed) (the evaluation cap; the iteration limit alone would allow 20554). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
+// Worst case: 200000 objective calls, 4 of them per gradient and 8 per choice of the difference intervals (at the start and before each convergence is confirmed) (the evaluation cap; the iteration limit alone would allow 205054). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
 func MinPlateDecrease(x0 [2]float32) MinPlateDecreaseResult {
 	return MinPlateDecreaseWithLimits(x0, MinPlateDecreaseDefaultLimits())
@@ -142,9 +142,12 @@ const (
 //     decrease when f contradicts an analytic gradient (see minPlateDecreaseRiseTrend);
 //  5. move, refresh the gradient, let the direction learn from the step;
 //  6. stop, stalled, when every |Δx_i| is at most lim.Step·(|x_i| + 1) while
-//     the gradient test still fails. A stall with differences whose
-//     gradient measure is within ten times their error's measure is
-//     convergence to their accuracy, once confirmed, with that limit.
+//     the gradient test still fails. At a stall the run settles first
+//     (settle): the error bound gains the rounding floor of x, with
+//     differences confirmed, and the limit rises to ten times the larger
+//     of lim.Gradient and the bound's measure; a gradient within that is
+//     as small as this point can show, and the run is converged with that
+//     limit, which it reports.
 //
 // Only step 1 is convergence: the first-order test holds at X. Before
 // every objective call it checks that lim.Evaluations leaves room for it,
@@ -194,11 +197,12 @@ func minPlateDecreaseMinimize(x0 [2]float32, lim MinPlateDecreaseLimits) minPlat
 			minPlateDecreaseGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := minPlateDecreaseGradientMeasure(&g, &e, &x, fx)
-		margin := float32(3) // the limit differences can be held to, in multiples of their error's measure
+		out.gradient, out.gradientLimit = measure, minPlateDecreaseLarger(lim.Gradient, 3*floor)
 		if stalled {
-			margin = 10
+			// No step can make progress here: the gradient is as small as
+			// this point shows it, within ten times the limit or the floor.
+			out.gradientLimit = 10 * minPlateDecreaseLarger(lim.Gradient, floor)
 		}
-		out.gradient, out.gradientLimit = measure, minPlateDecreaseLarger(lim.Gradient, margin*floor)
 		if out.f <= best.f {
 			best = out
 		}
@@ -221,21 +225,30 @@ func minPlateDecreaseMinimize(x0 [2]float32, lim MinPlateDecreaseLimits) minPlat
 			continue
 		}
 		if stalled {
-			// The gradient from intervals chosen here is still above the
-			// limit: search once more with it.
+			// Settled and still above the limit: stalled, unless
+			// differences, whose intervals were just chosen here, can
+			// search once more with the better gradient.
+			if minPlateDecreaseDerivativeCost == 0 {
+				return best.ending(MinPlateDecreaseStalled, out.iterations, out.evaluations)
+			}
 			stalled, retried = false, out.iterations
 		}
-		// A stall with differences whose gradient is within ten times its
-		// error bound's measure of zero is convergence to their accuracy,
-		// once confirmed: no step can show progress below their error.
-		lenient := minPlateDecreaseDerivativeCost > 0 && retried != out.iterations && measure <= minPlateDecreaseLarger(lim.Gradient, 10*floor)
-		if out.iterations > 0 && retried != out.iterations {
+		// At a stall, settle first: the run is converged if the gradient
+		// is zero to the rounding of x (and, with differences, to their
+		// accuracy, confirmed); see settle.
+		canSettle := retried != out.iterations
+		if out.iterations > 0 && canSettle {
 			if minPlateDecreaseStepWithin(&s, &x, lim.Step) {
-				if lenient {
-					stalled, confirmed = true, false
-					continue
+				calls, ok := minPlateDecreaseSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+				out.evaluations += calls
+				if !ok {
+					return best.ending(MinPlateDecreaseOutOfEvaluations, out.iterations, out.evaluations)
 				}
-				return best.ending(MinPlateDecreaseStalled, out.iterations, out.evaluations)
+				if !minPlateDecreaseFiniteVec(&g) {
+					return best.ending(MinPlateDecreaseNonFiniteGradient, out.iterations, out.evaluations)
+				}
+				stalled, confirmed = true, true
+				continue
 			}
 			if rises >= 8 {
 				return best.ending(MinPlateDecreaseDiverged, out.iterations, out.evaluations)
@@ -274,8 +287,16 @@ func minPlateDecreaseMinimize(x0 [2]float32, lim MinPlateDecreaseLimits) minPlat
 			switch {
 			case found.rising:
 				end = MinPlateDecreaseNoDecrease
-			case found.end == minPlateDecreaseSearchTiny && lenient:
-				stalled, confirmed = true, false
+			case found.end == minPlateDecreaseSearchTiny && canSettle:
+				calls, ok := minPlateDecreaseSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+				out.evaluations += calls
+				if !ok {
+					return best.ending(MinPlateDecreaseOutOfEvaluations, out.iterations, out.evaluations)
+				}
+				if !minPlateDecreaseFiniteVec(&g) {
+					return best.ending(MinPlateDecreaseNonFiniteGradient, out.iterations, out.evaluations)
+				}
+				stalled, confirmed = true, true
 				continue
 			case found.end == minPlateDecreaseSearchTiny:
 				end = MinPlateDecreaseStalled
@@ -365,6 +386,7 @@ func minPlateDecreaseFiniteVec(x *[2]float32) bool {
 type minPlateDecreaseDifferences struct {
 	ratio     [2]float32
 	curvature [2]float32
+	second    [2]float32 // |f″| along e_i, for the rounding floor of a stall (see minPlateDecreaseRoundingFloor)
 }
 
 // minPlateDecreaseCalibrate chooses each central-difference interval from the
@@ -401,6 +423,7 @@ func minPlateDecreaseCalibrate(x *[2]float32, fx float32, diffs *minPlateDecreas
 		probe[i] = xi
 		if minPlateDecreaseFinite(f[0]) && minPlateDecreaseFinite(f[1]) && minPlateDecreaseFinite(f[2]) && minPlateDecreaseFinite(f[3]) {
 			diffs.curvature[i] = minPlateDecreaseAbs(f[0]-2*f[1]+2*f[2]-f[3]) / (2 * bar * bar * bar)
+			diffs.second[i] = minPlateDecreaseAbs(f[1]-2*fx+f[2]) / (bar * bar)
 			slope[i] = (f[1] - f[2]) / (2 * bar)
 		}
 	}
@@ -628,6 +651,43 @@ func minPlateDecreaseStepWithin(s, x *[2]float32, tol float32) bool {
 		}
 	}
 	return true
+}
+
+// minPlateDecreaseSettle prepares the final verdict at a stall: with differences it
+// confirms the gradient (minPlateDecreaseConfirmGradient), then it adds to each error
+// bound the rounding floor of x (minPlateDecreaseRoundingFloor). It returns the objective
+// calls spent and false when budget ran out first.
+func minPlateDecreaseSettle(x *[2]float32, fx float32, g, e *[2]float32, diffs *minPlateDecreaseDifferences, budget int) (int, bool) {
+	calls := 0
+	if minPlateDecreaseDerivativeCost > 0 {
+		spent, ok := minPlateDecreaseConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
+	}
+	minPlateDecreaseRoundingFloor(x, g, e, diffs)
+	return calls, true
+}
+
+// minPlateDecreaseRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
+// that moving xᵢ by a few of its rounding units makes in gᵢ:
+// where no step the step test resolves decreases f, a gradient that small
+// is zero to the rounding of x (the resolution of x in floating point,
+// common practice). It is added only at a stall, so a gradient far above
+// it still ends the run as stalled.
+func minPlateDecreaseRoundingFloor(x, g, e *[2]float32, diffs *minPlateDecreaseDifferences) {
+	var h [2]float32
+	minPlateDecreaseDiagonalCurvature(x, g, diffs, &h)
+	for i := range e {
+		e[i] += 4 * minPlateDecreaseUnitRoundoff * minPlateDecreaseAbs(x[i]) * h[i]
+	}
+}
+
+// minPlateDecreaseDiagonalCurvature takes each |f″| along eᵢ from the differences' last
+// calibration, which minPlateDecreaseConfirmGradient has just made at x.
+func minPlateDecreaseDiagonalCurvature(x, g *[2]float32, diffs *minPlateDecreaseDifferences, h *[2]float32) {
+	*h = diffs.second
 }
 
 // minPlateDecreaseDot returns aᵀb.

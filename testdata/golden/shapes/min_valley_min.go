@@ -81,9 +81,9 @@ type MinValleyLimits struct {
 // MinValleyDefaultLimits returns the stop limits of shapes.toml, [minimizer.stop].
 func MinValleyDefaultLimits() MinValleyLimits {
 	return MinValleyLimits{
-		Evaluations: 10000,
+		Evaluations: 200000,
 		Gradient:    1e-08,
-		Iterations:  500,
+		Iterations:  5000,
 		Step:        1e-14,
 	}
 }
@@ -95,9 +95,9 @@ func MinValleyDefaultLimits() MinValleyLimits {
 // Derivative analytic: the user's own gradient function (spec key `gradient`); costs no objective calls.
 // Gradient test relative: max over i of (|∂f/∂xᵢ| + eᵢ)·max(|xᵢ|, 1)/max(|f(x)|, 1), eᵢ the error bound of differences (0 for an analytic gradient).
 // Constants: initial 1.0, c1 0.0001, c2 0.8, at most 48 trials per line search, memory 3 pairs.
-// Default stop: gradient measure ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 500 iterations, 10000 objective calls.
+// Default stop: gradient measure ≤ 1e-08, every |Δxᵢ| ≤ 1e-14·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
 //
-// Worst case: 10000 objective calls (the evaluation cap; the iteration limit alone would allow 24049). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
+// Worst case: 200000 objective calls (the evaluation cap; the iteration limit alone would allow 240049). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
 func MinValley(recv *Valley, x0 [2]float64) MinValleyResult {
 	return MinValleyWithLimits(recv, x0, MinValleyDefaultLimits())
@@ -144,9 +144,12 @@ const (
 //     decrease when f contradicts an analytic gradient (see minValleyRiseTrend);
 //  5. move, refresh the gradient, let the direction learn from the step;
 //  6. stop, stalled, when every |Δx_i| is at most lim.Step·(|x_i| + 1) while
-//     the gradient test still fails. A stall with differences whose
-//     gradient measure is within ten times their error's measure is
-//     convergence to their accuracy, once confirmed, with that limit.
+//     the gradient test still fails. At a stall the run settles first
+//     (settle): the error bound gains the rounding floor of x, with
+//     differences confirmed, and the limit rises to ten times the larger
+//     of lim.Gradient and the bound's measure; a gradient within that is
+//     as small as this point can show, and the run is converged with that
+//     limit, which it reports.
 //
 // Only step 1 is convergence: the first-order test holds at X. Before
 // every objective call it checks that lim.Evaluations leaves room for it,
@@ -196,11 +199,12 @@ func minValleyMinimize(recv *Valley, x0 [2]float64, lim MinValleyLimits) minVall
 			minValleyGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := minValleyGradientMeasure(&g, &e, &x, fx)
-		margin := float64(3) // the limit differences can be held to, in multiples of their error's measure
+		out.gradient, out.gradientLimit = measure, minValleyLarger(lim.Gradient, 3*floor)
 		if stalled {
-			margin = 10
+			// No step can make progress here: the gradient is as small as
+			// this point shows it, within ten times the limit or the floor.
+			out.gradientLimit = 10 * minValleyLarger(lim.Gradient, floor)
 		}
-		out.gradient, out.gradientLimit = measure, minValleyLarger(lim.Gradient, margin*floor)
 		if out.f <= best.f {
 			best = out
 		}
@@ -223,21 +227,30 @@ func minValleyMinimize(recv *Valley, x0 [2]float64, lim MinValleyLimits) minVall
 			continue
 		}
 		if stalled {
-			// The gradient from intervals chosen here is still above the
-			// limit: search once more with it.
+			// Settled and still above the limit: stalled, unless
+			// differences, whose intervals were just chosen here, can
+			// search once more with the better gradient.
+			if minValleyDerivativeCost == 0 {
+				return best.ending(MinValleyStalled, out.iterations, out.evaluations)
+			}
 			stalled, retried = false, out.iterations
 		}
-		// A stall with differences whose gradient is within ten times its
-		// error bound's measure of zero is convergence to their accuracy,
-		// once confirmed: no step can show progress below their error.
-		lenient := minValleyDerivativeCost > 0 && retried != out.iterations && measure <= minValleyLarger(lim.Gradient, 10*floor)
-		if out.iterations > 0 && retried != out.iterations {
+		// At a stall, settle first: the run is converged if the gradient
+		// is zero to the rounding of x (and, with differences, to their
+		// accuracy, confirmed); see settle.
+		canSettle := retried != out.iterations
+		if out.iterations > 0 && canSettle {
 			if minValleyStepWithin(&s, &x, lim.Step) {
-				if lenient {
-					stalled, confirmed = true, false
-					continue
+				calls, ok := minValleySettle(recv, &x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+				out.evaluations += calls
+				if !ok {
+					return best.ending(MinValleyOutOfEvaluations, out.iterations, out.evaluations)
 				}
-				return best.ending(MinValleyStalled, out.iterations, out.evaluations)
+				if !minValleyFiniteVec(&g) {
+					return best.ending(MinValleyNonFiniteGradient, out.iterations, out.evaluations)
+				}
+				stalled, confirmed = true, true
+				continue
 			}
 			if rises >= 8 {
 				return best.ending(MinValleyDiverged, out.iterations, out.evaluations)
@@ -276,8 +289,16 @@ func minValleyMinimize(recv *Valley, x0 [2]float64, lim MinValleyLimits) minVall
 			switch {
 			case found.rising:
 				end = MinValleyNoDecrease
-			case found.end == minValleySearchTiny && lenient:
-				stalled, confirmed = true, false
+			case found.end == minValleySearchTiny && canSettle:
+				calls, ok := minValleySettle(recv, &x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+				out.evaluations += calls
+				if !ok {
+					return best.ending(MinValleyOutOfEvaluations, out.iterations, out.evaluations)
+				}
+				if !minValleyFiniteVec(&g) {
+					return best.ending(MinValleyNonFiniteGradient, out.iterations, out.evaluations)
+				}
+				stalled, confirmed = true, true
 				continue
 			case found.end == minValleySearchTiny:
 				end = MinValleyStalled
@@ -367,6 +388,7 @@ func minValleyFiniteVec(x *[2]float64) bool {
 type minValleyDifferences struct {
 	ratio     [2]float64
 	curvature [2]float64
+	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see minValleyRoundingFloor)
 }
 
 // minValleyCalibrate: an analytic gradient needs no intervals.
@@ -581,6 +603,65 @@ func minValleyStepWithin(s, x *[2]float64, tol float64) bool {
 		}
 	}
 	return true
+}
+
+// minValleySettle prepares the final verdict at a stall: with differences it
+// confirms the gradient (minValleyConfirmGradient), then it adds to each error
+// bound the rounding floor of x (minValleyRoundingFloor). It returns the objective
+// calls spent and false when budget ran out first.
+func minValleySettle(recv *Valley, x *[2]float64, fx float64, g, e *[2]float64, diffs *minValleyDifferences, budget int) (int, bool) {
+	calls := 0
+	if minValleyDerivativeCost > 0 {
+		spent, ok := minValleyConfirmGradient(recv, x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
+	}
+	minValleyRoundingFloor(recv, x, g, e, diffs)
+	return calls, true
+}
+
+// minValleyRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
+// that moving xᵢ by a few of its rounding units makes in gᵢ:
+// where no step the step test resolves decreases f, a gradient that small
+// is zero to the rounding of x (the resolution of x in floating point,
+// common practice). It is added only at a stall, so a gradient far above
+// it still ends the run as stalled.
+func minValleyRoundingFloor(recv *Valley, x, g, e *[2]float64, diffs *minValleyDifferences) {
+	var h [2]float64
+	minValleyDiagonalCurvature(recv, x, g, diffs, &h)
+	for i := range e {
+		e[i] += 4 * minValleyUnitRoundoff * minValleyAbs(x[i]) * h[i]
+	}
+}
+
+// minValleyDiagonalCurvature estimates each |∂²f/∂xᵢ²| from the analytic gradient
+// at x + δᵢeᵢ, δᵢ = √u·max(1, |xᵢ|): dim gradient calls and no objective
+// call (a forward difference of the gradient, Nocedal & Wright 2006,
+// §8.1).
+func minValleyDiagonalCurvature(recv *Valley, x, g *[2]float64, diffs *minValleyDifferences, h *[2]float64) {
+	probe := *x
+	var moved [2]float64
+	for i := range probe {
+		xi := probe[i]
+		up, delta := minValleyProbeStep(xi, minValleySquareRoot(minValleyUnitRoundoff)*minValleyLarger(1, minValleyAbs(xi)))
+		probe[i] = up
+		moved = recv.DepthGradient(probe)
+		h[i] = minValleyAbs(moved[i]-g[i]) / delta
+		probe[i] = xi
+	}
+}
+
+// minValleyProbeStep returns x_i moved by h, and the step actually representable.
+func minValleyProbeStep(xi, h float64) (float64, float64) {
+	moved := xi + h
+	return moved, moved - xi
+}
+
+// minValleySquareRoot returns √v.
+func minValleySquareRoot(v float64) float64 {
+	return math.Sqrt(v)
 }
 
 // minValleyTinyStep returns the longest t for which the step t·d from x passes the
@@ -843,11 +924,6 @@ func minValleyModelMinimizer(a, b *minValleyLinePoint) (t float64, ok bool) {
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, minValleyFinite(t)
-}
-
-// minValleySquareRoot returns √v.
-func minValleySquareRoot(v float64) float64 {
-	return math.Sqrt(v)
 }
 
 // minValleyClampBetween returns v limited to the interval with ends a and b, in

@@ -81,9 +81,9 @@ type MinPlateLimits struct {
 // MinPlateDefaultLimits returns the stop limits of shapes.toml, [minimizer.stop].
 func MinPlateDefaultLimits() MinPlateLimits {
 	return MinPlateLimits{
-		Evaluations: 10000,
+		Evaluations: 200000,
 		Gradient:    0.0001,
-		Iterations:  500,
+		Iterations:  5000,
 		Step:        1e-06,
 	}
 }
@@ -95,9 +95,9 @@ func MinPlateDefaultLimits() MinPlateLimits {
 // Derivative analytic: the user's own gradient function (spec key `gradient`); costs no objective calls.
 // Gradient test relative: max over i of (|∂f/∂xᵢ| + eᵢ)·max(|xᵢ|, 1)/max(|f(x)|, 1), eᵢ the error bound of differences (0 for an analytic gradient).
 // Constants: initial 0.2.
-// Default stop: gradient measure ≤ 0.0001, every |Δxᵢ| ≤ 1e-06·(|xᵢ| + 1), 500 iterations, 10000 objective calls.
+// Default stop: gradient measure ≤ 0.0001, every |Δxᵢ| ≤ 1e-06·(|xᵢ| + 1), 5000 iterations, 200000 objective calls.
 //
-// Worst case: 502 objective calls (the bound the iteration limit sets, below the evaluation cap of 10000). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
+// Worst case: 5002 objective calls (the bound the iteration limit sets, below the evaluation cap of 200000). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.
 // Check Status.Converged() before acting on X.
 func MinPlate(x0 [2]float32) MinPlateResult {
 	return MinPlateWithLimits(x0, MinPlateDefaultLimits())
@@ -119,9 +119,10 @@ func MinPlateWithLimits(x0 [2]float32, limits MinPlateLimits) MinPlateResult {
 
 // Tunables of MinPlate from shapes.toml; the kernels below read them.
 const (
-	minPlateStepInitial    = 0.2            // step.initial
-	minPlateDerivativeCost = 0              // objective calls per gradient
-	minPlateLargestFinite  = 0x1.fffffep127 // the largest finite value of the float type
+	minPlateStepInitial    = 0.2                   // step.initial
+	minPlateDerivativeCost = 0                     // objective calls per gradient
+	minPlateUnitRoundoff   = 5.960464477539063e-08 // unit roundoff u of the float type
+	minPlateLargestFinite  = 0x1.fffffep127        // the largest finite value of the float type
 )
 
 // minPlateMinimize runs the descent loop from x0 within lim:
@@ -139,9 +140,12 @@ const (
 //     decrease when f contradicts an analytic gradient (see riseTrend);
 //  5. move, refresh the gradient, let the direction learn from the step;
 //  6. stop, stalled, when every |Δx_i| is at most lim.Step·(|x_i| + 1) while
-//     the gradient test still fails. A stall with differences whose
-//     gradient measure is within ten times their error's measure is
-//     convergence to their accuracy, once confirmed, with that limit.
+//     the gradient test still fails. At a stall the run settles first
+//     (settle): the error bound gains the rounding floor of x, with
+//     differences confirmed, and the limit rises to ten times the larger
+//     of lim.Gradient and the bound's measure; a gradient within that is
+//     as small as this point can show, and the run is converged with that
+//     limit, which it reports.
 //
 // Only step 1 is convergence: the first-order test holds at X. Before
 // every objective call it checks that lim.Evaluations leaves room for it,
@@ -191,11 +195,12 @@ func minPlateMinimize(x0 [2]float32, lim MinPlateLimits) minPlateOutcome {
 			minPlateGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := minPlateGradientMeasure(&g, &e, &x, fx)
-		margin := float32(3) // the limit differences can be held to, in multiples of their error's measure
+		out.gradient, out.gradientLimit = measure, minPlateLarger(lim.Gradient, 3*floor)
 		if stalled {
-			margin = 10
+			// No step can make progress here: the gradient is as small as
+			// this point shows it, within ten times the limit or the floor.
+			out.gradientLimit = 10 * minPlateLarger(lim.Gradient, floor)
 		}
-		out.gradient, out.gradientLimit = measure, minPlateLarger(lim.Gradient, margin*floor)
 		if out.f <= best.f {
 			best = out
 		}
@@ -218,21 +223,30 @@ func minPlateMinimize(x0 [2]float32, lim MinPlateLimits) minPlateOutcome {
 			continue
 		}
 		if stalled {
-			// The gradient from intervals chosen here is still above the
-			// limit: search once more with it.
+			// Settled and still above the limit: stalled, unless
+			// differences, whose intervals were just chosen here, can
+			// search once more with the better gradient.
+			if minPlateDerivativeCost == 0 {
+				return best.ending(MinPlateStalled, out.iterations, out.evaluations)
+			}
 			stalled, retried = false, out.iterations
 		}
-		// A stall with differences whose gradient is within ten times its
-		// error bound's measure of zero is convergence to their accuracy,
-		// once confirmed: no step can show progress below their error.
-		lenient := minPlateDerivativeCost > 0 && retried != out.iterations && measure <= minPlateLarger(lim.Gradient, 10*floor)
-		if out.iterations > 0 && retried != out.iterations {
+		// At a stall, settle first: the run is converged if the gradient
+		// is zero to the rounding of x (and, with differences, to their
+		// accuracy, confirmed); see settle.
+		canSettle := retried != out.iterations
+		if out.iterations > 0 && canSettle {
 			if minPlateStepWithin(&s, &x, lim.Step) {
-				if lenient {
-					stalled, confirmed = true, false
-					continue
+				calls, ok := minPlateSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+				out.evaluations += calls
+				if !ok {
+					return best.ending(MinPlateOutOfEvaluations, out.iterations, out.evaluations)
 				}
-				return best.ending(MinPlateStalled, out.iterations, out.evaluations)
+				if !minPlateFiniteVec(&g) {
+					return best.ending(MinPlateNonFiniteGradient, out.iterations, out.evaluations)
+				}
+				stalled, confirmed = true, true
+				continue
 			}
 			if rises >= 8 {
 				return best.ending(MinPlateDiverged, out.iterations, out.evaluations)
@@ -271,8 +285,16 @@ func minPlateMinimize(x0 [2]float32, lim MinPlateLimits) minPlateOutcome {
 			switch {
 			case found.rising:
 				end = MinPlateNoDecrease
-			case found.end == minPlateSearchTiny && lenient:
-				stalled, confirmed = true, false
+			case found.end == minPlateSearchTiny && canSettle:
+				calls, ok := minPlateSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
+				out.evaluations += calls
+				if !ok {
+					return best.ending(MinPlateOutOfEvaluations, out.iterations, out.evaluations)
+				}
+				if !minPlateFiniteVec(&g) {
+					return best.ending(MinPlateNonFiniteGradient, out.iterations, out.evaluations)
+				}
+				stalled, confirmed = true, true
 				continue
 			case found.end == minPlateSearchTiny:
 				end = MinPlateStalled
@@ -362,6 +384,7 @@ func minPlateFiniteVec(x *[2]float32) bool {
 type minPlateDifferences struct {
 	ratio     [2]float32
 	curvature [2]float32
+	second    [2]float32 // |f″| along e_i, for the rounding floor of a stall (see minPlateRoundingFloor)
 }
 
 // minPlateCalibrate: an analytic gradient needs no intervals.
@@ -497,6 +520,65 @@ func minPlateStepWithin(s, x *[2]float32, tol float32) bool {
 		}
 	}
 	return true
+}
+
+// minPlateSettle prepares the final verdict at a stall: with differences it
+// confirms the gradient (minPlateConfirmGradient), then it adds to each error
+// bound the rounding floor of x (minPlateRoundingFloor). It returns the objective
+// calls spent and false when budget ran out first.
+func minPlateSettle(x *[2]float32, fx float32, g, e *[2]float32, diffs *minPlateDifferences, budget int) (int, bool) {
+	calls := 0
+	if minPlateDerivativeCost > 0 {
+		spent, ok := minPlateConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
+	}
+	minPlateRoundingFloor(x, g, e, diffs)
+	return calls, true
+}
+
+// minPlateRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
+// that moving xᵢ by a few of its rounding units makes in gᵢ:
+// where no step the step test resolves decreases f, a gradient that small
+// is zero to the rounding of x (the resolution of x in floating point,
+// common practice). It is added only at a stall, so a gradient far above
+// it still ends the run as stalled.
+func minPlateRoundingFloor(x, g, e *[2]float32, diffs *minPlateDifferences) {
+	var h [2]float32
+	minPlateDiagonalCurvature(x, g, diffs, &h)
+	for i := range e {
+		e[i] += 4 * minPlateUnitRoundoff * minPlateAbs(x[i]) * h[i]
+	}
+}
+
+// minPlateDiagonalCurvature estimates each |∂²f/∂xᵢ²| from the analytic gradient
+// at x + δᵢeᵢ, δᵢ = √u·max(1, |xᵢ|): dim gradient calls and no objective
+// call (a forward difference of the gradient, Nocedal & Wright 2006,
+// §8.1).
+func minPlateDiagonalCurvature(x, g *[2]float32, diffs *minPlateDifferences, h *[2]float32) {
+	probe := *x
+	var moved [2]float32
+	for i := range probe {
+		xi := probe[i]
+		up, delta := minPlateProbeStep(xi, minPlateSquareRoot(minPlateUnitRoundoff)*minPlateLarger(1, minPlateAbs(xi)))
+		probe[i] = up
+		PlateGradient(&probe, &moved)
+		h[i] = minPlateAbs(moved[i]-g[i]) / delta
+		probe[i] = xi
+	}
+}
+
+// minPlateProbeStep returns x_i moved by h, and the step actually representable.
+func minPlateProbeStep(xi, h float32) (float32, float32) {
+	moved := xi + h
+	return moved, moved - xi
+}
+
+// minPlateSquareRoot returns √v.
+func minPlateSquareRoot(v float32) float32 {
+	return float32(math.Sqrt(float64(v)))
 }
 
 // minPlateDot returns aᵀb.
