@@ -1,0 +1,136 @@
+package gen
+
+import (
+	"fmt"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+	"time"
+)
+
+// The generator's own speed. The issue's targets: gen on the quickstart
+// within 3× the time of loading its package alone, and under 5 ms per
+// extra minimizer of a spec. Run them with
+//
+//	go test -run '^$' -bench 'Quickstart|PerMinimizer' -count 5 ./gen
+//
+// (the figures are in the README, "How thalweg is built and checked").
+
+var quickstartSpec = filepath.Join("..", "examples", "quickstart", "quickstart.toml")
+
+// BenchmarkLoadQuickstart loads the quickstart's package as gen does
+// (go/packages, which runs go list, then type-checks from source), and
+// nothing else: the floor of any gen run.
+func BenchmarkLoadQuickstart(b *testing.B) {
+	dir := filepath.Dir(quickstartSpec)
+	var probs Problems
+	loadPackage(dir, &probs) // warm up: the first go list is slower
+	for b.Loop() {
+		var probs Problems
+		if loadPackage(dir, &probs) == nil || probs.Err() != nil {
+			b.Fatalf("loading %s: %v", dir, probs.Err())
+		}
+	}
+}
+
+// BenchmarkGenerateQuickstart generates the quickstart's two minimizers
+// and their tests in memory, as gen and check do before writing.
+func BenchmarkGenerateQuickstart(b *testing.B) {
+	Generate([]string{quickstartSpec}) // warm up
+	for b.Loop() {
+		if _, err := Generate([]string{quickstartSpec}); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
+
+// BenchmarkGeneratePerMinimizer reports the cost of one more minimizer in
+// a spec: a package with one objective, a spec of 1 and one of 41
+// minimizers (a mix of directions, step rules and derivative sources),
+// ns/extra-minimizer = (t₄₁ − t₁)/40.
+func BenchmarkGeneratePerMinimizer(b *testing.B) {
+	one, many := benchModule(b, 41)
+	generate := func(spec string) time.Duration {
+		start := time.Now()
+		outs, err := Generate([]string{spec})
+		if err != nil {
+			b.Fatal(err)
+		}
+		if len(outs) == 0 {
+			b.Fatal("no outputs")
+		}
+		return time.Since(start)
+	}
+	generate(one) // warm up
+	generate(many)
+	var tOne, tMany time.Duration
+	n := 0
+	for b.Loop() {
+		tOne += generate(one)
+		tMany += generate(many)
+		n++
+	}
+	b.ReportMetric(float64(tOne)/float64(n), "ns/1-minimizer-spec")
+	b.ReportMetric(float64(tMany-tOne)/float64(40*n), "ns/extra-minimizer")
+}
+
+// benchModule writes a module with one objective and its gradient, and
+// two specs: the first minimizer alone, and all n of them.
+func benchModule(tb testing.TB, n int) (one, many string) {
+	tb.Helper()
+	dir := tb.TempDir()
+	files := map[string]string{
+		"go.mod": "module bench\n\ngo 1.24\n",
+		"objective.go": `package bench
+
+// Rosen is the Rosenbrock function.
+func Rosen(x *[2]float64) float64 {
+	a, b := 1-x[0], x[1]-x[0]*x[0]
+	return a*a + 100*b*b
+}
+
+// RosenGrad is Rosen's gradient.
+func RosenGrad(x, g *[2]float64) {
+	b := x[1] - x[0]*x[0]
+	g[0] = -2*(1-x[0]) - 400*x[0]*b
+	g[1] = 200 * b
+}
+`,
+	}
+	// The direction × step rule pairs thalweg tune tries, cycled with the
+	// three derivative sources.
+	combos := []struct{ direction, step string }{
+		{"bfgs", `rule = "armijo"`},
+		{"steepest", `rule = "armijo"`},
+		{"steepest", "rule = \"armijo\"\ninterpolate = true"},
+		{"steepest", `rule = "wolfe"`},
+		{"bfgs", `rule = "wolfe"`},
+		{"bfgs", `rule = "strong-wolfe"`},
+		{"lbfgs", `rule = "armijo"`},
+		{"lbfgs", `rule = "wolfe"`},
+		{"lbfgs", `rule = "strong-wolfe"`},
+		{"cg", `rule = "wolfe"`},
+		{"cg", `rule = "strong-wolfe"`},
+	}
+	derivatives := []string{"central", "analytic", "forward"}
+	var specs []string
+	for i := range n {
+		c := combos[i%len(combos)]
+		d := derivatives[i%len(derivatives)]
+		grad := ""
+		if d == "analytic" {
+			grad = "gradient = \"RosenGrad\"\n"
+		}
+		specs = append(specs, fmt.Sprintf("[[minimizer]]\nname = \"Min%02d\"\nobjective = \"Rosen\"\nderivative = %q\n%sdirection = %q\nstart = [-1.2, 1.0]\n\n[minimizer.step]\n%s\n",
+			i, d, grad, c.direction, c.step))
+	}
+	files["one.toml"] = specs[0]
+	files["many.toml"] = strings.Join(specs, "\n")
+	for name, src := range files {
+		if err := os.WriteFile(filepath.Join(dir, name), []byte(src), 0o644); err != nil {
+			tb.Fatal(err)
+		}
+	}
+	return filepath.Join(dir, "one.toml"), filepath.Join(dir, "many.toml")
+}
