@@ -7,6 +7,8 @@ import (
 	"strings"
 	"testing"
 	"time"
+
+	"github.com/thalweg-go/thalweg/templates"
 )
 
 // The generator's own speed. The targets: gen on the quickstart
@@ -73,6 +75,37 @@ func BenchmarkGeneratePerMinimizer(b *testing.B) {
 	}
 	b.ReportMetric(float64(tOne)/float64(n), "ns/1-minimizer-spec")
 	b.ReportMetric(float64(tMany-tOne)/float64(40*n), "ns/extra-minimizer")
+}
+
+// BenchmarkSpecialize copies and rewrites the kernels for each of 41
+// minimizers, the part of a minimizer's cost that specialize.go owns.
+func BenchmarkSpecialize(b *testing.B) {
+	_, many := benchModule(b, 41)
+	plans, err := Plans([]string{many})
+	if err != nil {
+		b.Fatal(err)
+	}
+	if _, err := loadKernels(); err != nil {
+		b.Fatal(err)
+	}
+	for b.Loop() {
+		for _, p := range plans {
+			if _, err := specialize(p.kernelChoice()); err != nil {
+				b.Fatal(err)
+			}
+		}
+	}
+	b.ReportMetric(float64(b.Elapsed())/float64(b.N*len(plans)), "ns/minimizer")
+}
+
+// BenchmarkParseKernels parses and type-checks the templates, once per
+// process.
+func BenchmarkParseKernels(b *testing.B) {
+	for b.Loop() {
+		if _, err := parseKernels(templates.Source); err != nil {
+			b.Fatal(err)
+		}
+	}
 }
 
 // benchModule writes a module with one objective and its gradient, and
