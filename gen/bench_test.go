@@ -3,6 +3,7 @@ package gen
 import (
 	"fmt"
 	"os"
+	"os/exec"
 	"path/filepath"
 	"strings"
 	"testing"
@@ -15,7 +16,7 @@ import (
 // within 3× the time of loading its package alone, and under 5 ms per
 // extra minimizer of a spec. Run them with
 //
-//	go test -run '^$' -bench 'Quickstart|PerMinimizer' -count 5 ./gen
+//	go test -run '^$' -bench 'Quickstart|PerMinimizer' -count 6 ./gen
 //
 // (the figures are in the README, "How thalweg is built and checked").
 
@@ -47,14 +48,48 @@ func BenchmarkGenerateQuickstart(b *testing.B) {
 	}
 }
 
+// BenchmarkGenerateQuickstartCold is BenchmarkGenerateQuickstart as a
+// run of thalweg pays for it: every iteration parses and type-checks the
+// kernels again, which a process does once.
+func BenchmarkGenerateQuickstartCold(b *testing.B) {
+	defer func() { kernelCache = newKernelCache() }()
+	Generate([]string{quickstartSpec}) // warm up go list
+	for b.Loop() {
+		kernelCache = newKernelCache() // benchmarks run alone: no test shares it now
+		if _, err := Generate([]string{quickstartSpec}); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
+
+// BenchmarkCheckQuickstartCommand runs thalweg check on the quickstart as
+// a process: the whole cost a user waits for, start-up included.
+func BenchmarkCheckQuickstartCommand(b *testing.B) {
+	bin := filepath.Join(b.TempDir(), "thalweg")
+	if out, err := exec.Command("go", "build", "-o", bin, "../cmd/thalweg").CombinedOutput(); err != nil {
+		b.Fatalf("building thalweg: %v\n%s", err, out)
+	}
+	run := func() {
+		if out, err := exec.Command(bin, "check", quickstartSpec).CombinedOutput(); err != nil {
+			b.Fatalf("thalweg check: %v\n%s", err, out)
+		}
+	}
+	run() // warm up
+	for b.Loop() {
+		run()
+	}
+}
+
 // BenchmarkGeneratePerMinimizer reports the cost of one more minimizer in
 // a spec: a package with one objective, a spec of 1 and one of 41
 // minimizers (a mix of directions, step rules and derivative sources),
 // ns/extra-minimizer = (t₄₁ − t₁)/40.
 func BenchmarkGeneratePerMinimizer(b *testing.B) {
 	one, many := benchModule(b, 41)
-	generate := func(spec string) time.Duration {
-		start := time.Now()
+	// generate returns the wall and CPU time (this process's threads, GC
+	// included; go list's child process excluded) of one generation.
+	generate := func(spec string) (wall, cpu time.Duration) {
+		cpu0, start := processCPU(b), time.Now()
 		outs, err := Generate([]string{spec})
 		if err != nil {
 			b.Fatal(err)
@@ -62,19 +97,24 @@ func BenchmarkGeneratePerMinimizer(b *testing.B) {
 		if len(outs) == 0 {
 			b.Fatal("no outputs")
 		}
-		return time.Since(start)
+		return time.Since(start), processCPU(b) - cpu0
 	}
 	generate(one) // warm up
 	generate(many)
-	var tOne, tMany time.Duration
+	var wallOne, wallMany, cpuOne, cpuMany time.Duration
 	n := 0
 	for b.Loop() {
-		tOne += generate(one)
-		tMany += generate(many)
+		w, c := generate(one)
+		wallOne, cpuOne = wallOne+w, cpuOne+c
+		w, c = generate(many)
+		wallMany, cpuMany = wallMany+w, cpuMany+c
 		n++
 	}
-	b.ReportMetric(float64(tOne)/float64(n), "ns/1-minimizer-spec")
-	b.ReportMetric(float64(tMany-tOne)/float64(40*n), "ns/extra-minimizer")
+	b.ReportMetric(float64(wallOne)/float64(n), "ns/1-minimizer-spec")
+	b.ReportMetric(float64(wallMany-wallOne)/float64(40*n), "ns/extra-minimizer")
+	if cpuMany > 0 {
+		b.ReportMetric(float64(cpuMany-cpuOne)/float64(40*n), "cpu-ns/extra-minimizer")
+	}
 }
 
 // BenchmarkSpecialize copies and rewrites the kernels for each of 41
@@ -96,6 +136,27 @@ func BenchmarkSpecialize(b *testing.B) {
 		}
 	}
 	b.ReportMetric(float64(b.Elapsed())/float64(b.N*len(plans)), "ns/minimizer")
+}
+
+// BenchmarkKernelCopy deep-copies every declaration of the kernels, with
+// their type information.
+func BenchmarkKernelCopy(b *testing.B) {
+	ks, err := loadKernels()
+	if err != nil {
+		b.Fatal(err)
+	}
+	exprs := 0
+	for _, name := range ks.order {
+		exprs += ks.units[name].exprs
+	}
+	for b.Loop() {
+		cp := newKernelCopier(ks.info, exprs)
+		for _, f := range ks.files {
+			for _, d := range f.Decls {
+				cp.decl(d)
+			}
+		}
+	}
 }
 
 // BenchmarkParseKernels parses and type-checks the templates, once per
