@@ -4,7 +4,6 @@ import (
 	"bytes"
 	"fmt"
 	"go/ast"
-	"go/importer"
 	"go/parser"
 	"go/printer"
 	"go/token"
@@ -21,7 +20,9 @@ import (
 	"github.com/thalweg-go/thalweg/templates"
 )
 
-// kernelSource is the templates package, parsed and type-checked once.
+// kernelSource is the templates package, parsed and type-checked once per
+// process (see loadKernels). It is shared by every specialization, also
+// across goroutines, and never modified: specialize rewrites copies.
 type kernelSource struct {
 	fset  *token.FileSet
 	files []*ast.File
@@ -36,40 +37,52 @@ type kernelSource struct {
 type unit struct {
 	name  string
 	decls []ast.Decl
+	exprs int // expressions in decls, to size a copy's type information
 }
 
-var (
-	importMu     sync.Mutex
-	importFset   = token.NewFileSet()
-	mathImporter = importer.ForCompiler(importFset, "source", nil)
-)
+// kernelCache parses and type-checks the embedded templates on first use.
+var kernelCache = newKernelCache()
 
-// loadKernels parses and type-checks the embedded templates package. Each
-// specialization gets a fresh tree, since the passes rewrite it in place.
+func newKernelCache() func() (*kernelSource, error) {
+	return sync.OnceValues(func() (*kernelSource, error) {
+		return parseKernels(templates.Source)
+	})
+}
+
+// loadKernels returns the templates, parsed and type-checked once per
+// process. The result is shared: never modify it.
 func loadKernels() (*kernelSource, error) {
-	return parseKernels(templates.Source)
+	return kernelCache()
 }
+
+// embedFile is the templates' file that embeds their source. It imports
+// embed, whose dependencies go/types would have to load from source, so it
+// is not part of the kernels; it declares only Source, a stand-in.
+const embedFile = "source.go"
 
 func parseKernels(src fs.FS) (*kernelSource, error) {
-	ks := &kernelSource{fset: importFset, units: map[string]*unit{}}
+	ks := &kernelSource{fset: token.NewFileSet(), units: map[string]*unit{}}
 	names, err := fs.Glob(src, "*.go")
 	if err != nil {
 		return nil, err
 	}
 	sort.Strings(names)
 	for _, name := range names {
-		if strings.HasSuffix(name, "_test.go") {
+		if strings.HasSuffix(name, "_test.go") || name == embedFile {
 			continue
 		}
 		data, err := fs.ReadFile(src, name)
 		if err != nil {
 			return nil, err
 		}
-		importMu.Lock()
 		f, err := parser.ParseFile(ks.fset, name, data, parser.ParseComments)
-		importMu.Unlock()
 		if err != nil {
 			return nil, err
+		}
+		for _, imp := range f.Imports {
+			if path, _ := strconv.Unquote(imp.Path.Value); path != "math" {
+				return nil, fmt.Errorf("templates/%s imports %s: the kernels may import only math", name, imp.Path.Value)
+			}
 		}
 		ks.files = append(ks.files, f)
 	}
@@ -78,11 +91,16 @@ func parseKernels(src fs.FS) (*kernelSource, error) {
 		Defs:  map[*ast.Ident]types.Object{},
 		Uses:  map[*ast.Ident]types.Object{},
 	}
-	importMu.Lock()
-	conf := types.Config{Importer: mathImporter}
-	ks.pkg, err = conf.Check("templates", ks.fset, ks.files, ks.info)
-	importMu.Unlock()
+	math, err := kernelMath()
 	if err != nil {
+		return nil, fmt.Errorf("gen's declaration of math does not type-check: %v", err)
+	}
+	conf := types.Config{Importer: kernelImporter{math}}
+	ks.pkg, err = conf.Check("templates", ks.fset, ks.files, ks.info)
+	if err != nil {
+		if strings.Contains(err.Error(), "undefined: math.") {
+			return nil, fmt.Errorf("templates do not type-check: %v (declare it in gen/kernelmath.go)", err)
+		}
 		return nil, fmt.Errorf("templates do not type-check: %v", err)
 	}
 	for _, f := range ks.files {
@@ -107,6 +125,12 @@ func parseKernels(src fs.FS) (*kernelSource, error) {
 			}
 			u := ks.unitFor(name)
 			u.decls = append(u.decls, d)
+			ast.Inspect(d, func(n ast.Node) bool {
+				if _, ok := n.(ast.Expr); ok {
+					u.exprs++
+				}
+				return true
+			})
 		}
 	}
 	return ks, nil
@@ -255,13 +279,23 @@ func specialize(c kernelChoice) (*specializedKernels, error) {
 		return nil, fmt.Errorf("no registry entry picks an alternative for the templates' dispatcher(s) %s (a thalweg bug)", strings.Join(unpicked, ", "))
 	}
 
-	rw := &rewriter{ks: ks, c: c, newName: newName}
+	// The passes rewrite declarations and comments in place: they get
+	// copies, and a view of the kernels whose type information is the
+	// copies'.
+	exprs := 0
+	for _, u := range reached {
+		exprs += u.exprs
+	}
+	cp := newKernelCopier(ks.info, exprs)
+	view := *ks
+	view.info = cp.info
+	rw := &rewriter{ks: &view, c: c, newName: newName}
 	var buf bytes.Buffer
 	for _, u := range reached {
 		for _, d := range u.decls {
 			own := declName(d)
-			comments := commentsWithin(ks.fileOf(d), d) // before renaming lengthens them
-			copyDecl := rw.rewrite(d)
+			comments := cp.comments(commentsWithin(ks.fileOf(d), d)) // before renaming lengthens them
+			copyDecl := rw.rewrite(cp.decl(d))
 			rw.renameComments(comments, own)
 			if err := printer.Fprint(&buf, ks.fset, &printer.CommentedNode{Node: copyDecl, Comments: comments}); err != nil {
 				return nil, err
@@ -313,7 +347,8 @@ func (rw *rewriter) obj(id *ast.Ident) types.Object {
 	return rw.ks.info.Defs[id]
 }
 
-// rewrite returns a rewritten copy of d. The passes, in order:
+// rewrite rewrites d in place, so d must be a copy of the shared kernels
+// (see kernelCopier), and returns it. The passes, in order:
 //
 //   - rewrite recv.objective(p) and recv.gradient(p, g) to calls of the
 //     user's functions in the form their signatures take;

@@ -16,12 +16,9 @@
 //     backtrackTrial, curvatureMet) switches on a selector in params.go, and every
 //     alternative it names has the same signature;
 //   - conversions between elem and float64 are written out for float32's
-//     sake; gen drops them when elem is float64.
+//     sake; gen drops them when elem is float64;
+//   - the files other than source.go import nothing but math, and use only
+//     what gen/kernelmath.go declares of it: gen type-checks them against
+//     that declaration (a test compares it with the real package) rather
+//     than load math, or embed, from source.
 package templates
-
-import "embed"
-
-// Source is this package's own source, which gen parses and specializes.
-//
-//go:embed *.go
-var Source embed.FS
