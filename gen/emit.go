@@ -141,7 +141,7 @@ func emitTypes(f *jen.File, p *Plan) {
 		jen.Id("X").Add(xType(p)).Comment("where the gradient test held, when converged; else the lowest point seen"),
 		jen.Id("F").Id(elem).Comment("the objective at X"),
 		jen.Id("Gradient").Id(elem).Comment("the gradient test's measure at X, the differences' error bound included; NaN when the run ended before the gradient at X was known"),
-		jen.Id("GradientLimit").Id(elem).Comment("the limit Gradient was held to: Limits.Gradient, raised with differences to ten times the measure of their error bound; converged runs have Gradient ≤ GradientLimit"),
+		jen.Id("GradientLimit").Id(elem).Comment("the limit Gradient was held to: Limits.Gradient, raised with differences to three times the measure of their error bound, and at a stall to ten times the larger of the two; converged runs have Gradient ≤ GradientLimit"),
 		jen.Id("Iterations").Int().Comment("accepted steps"),
 		jen.Id("Evaluations").Int().Comment("objective calls, finite differences included"),
 		jen.Id("Status").Id(name+"Status").Comment("why the run stopped; check Status.Converged()"),

@@ -56,9 +56,9 @@ var (
 	// time.
 	StopGradient = param(&Param{Table: "stop", Key: "gradient", Limit: "Gradient", Kind: Real,
 		Low: 0, High: math.Inf(1), DefaultFor: gradientDefault,
-		LimitDoc: "stop, converged, when the gradient test's measure is at most this (with differences, at most ten times the measure of their error bound where that is larger)",
+		LimitDoc: "stop, converged, when the gradient test's measure is at most this (with differences, at most three times the measure of their error bound where that is larger); the result reports the limit used",
 		ShownAs:  func(v float64) string { return "gradient measure ≤ " + FormatFloat(v) },
-		Doc:      "stop when the gradient test's measure (stop.gradient_test) is at most this, raised with differences to ten times the measure of their error bound where that is larger; default 1e-8 for float64, 1e-4 for float32 (common practice)"})
+		Doc:      "stop when the gradient test's measure (stop.gradient_test) is at most this, raised with differences to three times the measure of their error bound where that is larger, and at a stall to ten times the larger of the two; default 1e-8 for float64, 1e-4 for float32 (common practice)"})
 	StopStep = param(&Param{Table: "stop", Key: "step", Limit: "Step", Kind: Real,
 		Low: 0, High: math.Inf(1), DefaultFor: stepDefault,
 		LimitDoc: "stop when every |Δxᵢ| is at most this·(|xᵢ| + 1)",

@@ -3,10 +3,10 @@ package rules
 import "math"
 
 // gradientDefault is the default gradient limit for the gradient test's
-// measure: 1e-8 for float64 and 1e-4 for float32, about 45·√u and 400·√u
+// measure: 1e-8 for float64 and 1e-4 for float32, about √u and 0.4·√u
 // (common practice: the gradient of a smooth f computed in floating point
-// is rarely reliable below √u relative). With differences the kernel
-// raises it to ten times the measure of their error bound where that is
+// is rarely reliable far below √u relative). With differences the kernel
+// raises it to three times the measure of their error bound where that is
 // larger, so that it can be met, and reports the limit it used.
 func gradientDefault(c *Context) float64 {
 	if c.Elem == "float32" {

@@ -64,7 +64,7 @@ type ConcaveLeftWolfeMTAlphaEm3Result struct {
 	X             float64                          // where the gradient test held, when converged; else the lowest point seen
 	F             float64                          // the objective at X
 	Gradient      float64                          // the gradient test's measure at X, the differences' error bound included; NaN when the run ended before the gradient at X was known
-	GradientLimit float64                          // the limit Gradient was held to: Limits.Gradient, raised with differences to ten times the measure of their error bound; converged runs have Gradient ≤ GradientLimit
+	GradientLimit float64                          // the limit Gradient was held to: Limits.Gradient, raised with differences to three times the measure of their error bound, and at a stall to ten times the larger of the two; converged runs have Gradient ≤ GradientLimit
 	Iterations    int                              // accepted steps
 	Evaluations   int                              // objective calls, finite differences included
 	Status        ConcaveLeftWolfeMTAlphaEm3Status // why the run stopped; check Status.Converged()
@@ -72,7 +72,7 @@ type ConcaveLeftWolfeMTAlphaEm3Result struct {
 
 // ConcaveLeftWolfeMTAlphaEm3Limits are the stop limits of one run. Pass them to ConcaveLeftWolfeMTAlphaEm3WithLimits to change them at run time; ConcaveLeftWolfeMTAlphaEm3DefaultLimits returns the spec's.
 type ConcaveLeftWolfeMTAlphaEm3Limits struct {
-	Gradient    float64 // stop, converged, when the gradient test's measure is at most this (with differences, at most ten times the measure of their error bound where that is larger)
+	Gradient    float64 // stop, converged, when the gradient test's measure is at most this (with differences, at most three times the measure of their error bound where that is larger); the result reports the limit used
 	Step        float64 // stop when every |Δxᵢ| is at most this·(|xᵢ| + 1)
 	Iterations  int     // most accepted steps
 	Evaluations int     // hard cap on objective calls, finite differences included; never exceeded

@@ -557,7 +557,7 @@ func (p *Plant) CostGrad(x, g *[2]float64) {
 	for _, want := range []string{
 		`name = "MinimizePlantCost"`, `objective = "Plant.Cost"`, `derivative = "analytic"`,
 		`gradient = "Plant.CostGrad"`, `instance = "NewPlant"`, `start = [nan, nan]`,
-		`rule = "wolfe"`, "# shrink = 0.5", `evaluations = 10000`, "# memory = 5", "curvature = 0.9", `gradient_test = "relative"`,
+		`rule = "wolfe"`, "# shrink = 0.5", `evaluations = 200000`, "# memory = 5", "curvature = 0.9", `gradient_test = "relative"`,
 	} {
 		if !strings.Contains(spec, want) {
 			t.Errorf("starter spec lacks %q:\n%s", want, spec)
