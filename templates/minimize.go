@@ -77,11 +77,25 @@ func minimize(recv *receiver, x0 vec, lim limits) outcome {
 	t, slope := elem(stepInitial), elem(0) // the previous iteration's accepted step and slope
 	best := out                            // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                  // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                     // whether g and e at x come from confirmGradient
+	confirmed := false                     // whether g and e at x come from confirmGradient or settle
 	stalled := false                       // whether the run can make no more progress at x
 	retried := -1                          // the iteration whose stall was retried with recalibrated differences
+	verify := verifyNothing                // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != verifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see confirmGradient and settle).
+			calls, ok := settle(recv, &x, fx, &g, &e, &diffs, verify == verifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(statusOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !finiteVec(&g) {
+				return best.ending(statusNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = verifyNothing, true
+		case !confirmed:
 			gradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := gradientMeasure(&g, &e, &x, fx)
@@ -99,17 +113,7 @@ func minimize(recv *receiver, x0 vec, lim limits) outcome {
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := confirmGradient(recv, &x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(statusOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !finiteVec(&g) {
-				return best.ending(statusNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = verifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -127,15 +131,7 @@ func minimize(recv *receiver, x0 vec, lim limits) outcome {
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if stepWithin(&s, &x, lim.Step) {
-				calls, ok := settle(recv, &x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(statusOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !finiteVec(&g) {
-					return best.ending(statusNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = verifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -176,15 +172,7 @@ func minimize(recv *receiver, x0 vec, lim limits) outcome {
 			case found.rising:
 				end = statusNoDecrease
 			case found.end == searchTiny && canSettle:
-				calls, ok := settle(recv, &x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(statusOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !finiteVec(&g) {
-					return best.ending(statusNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = verifyStall, true
 				continue
 			case found.end == searchTiny:
 				end = statusStalled
@@ -233,11 +221,18 @@ func (o outcome) ending(end status, iterations, evaluations int) outcome {
 	return o
 }
 
-// settle prepares the final verdict at a stall: with differences it
-// confirms the gradient (confirmGradient), then it adds to each error
-// bound the rounding floor of x (roundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func settle(recv *receiver, x *vec, fx elem, g, e *vec, diffs *differences, budget int) (int, bool) {
+// What minimize checks at x before judging it again.
+const (
+	verifyNothing = iota
+	verifyPass    // a difference gradient passed the test
+	verifyStall   // no step makes progress
+)
+
+// settle prepares a verdict at x: with differences it confirms the
+// gradient (confirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (roundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func settle(recv *receiver, x *vec, fx elem, g, e *vec, diffs *differences, stall bool, budget int) (int, bool) {
 	calls := 0
 	if derivativeCost > 0 {
 		spent, ok := confirmGradient(recv, x, fx, g, e, diffs, budget)
@@ -246,6 +241,8 @@ func settle(recv *receiver, x *vec, fx elem, g, e *vec, diffs *differences, budg
 		}
 		calls = spent
 	}
-	roundingFloor(recv, x, g, e, diffs)
+	if stall {
+		roundingFloor(recv, x, g, e, diffs)
+	}
 	return calls, true
 }

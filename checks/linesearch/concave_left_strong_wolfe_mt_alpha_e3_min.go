@@ -190,11 +190,25 @@ func concaveLeftStrongWolfeMTAlphaE3Minimize(x0 [1]float64, lim ConcaveLeftStron
 	t, slope := float64(concaveLeftStrongWolfeMTAlphaE3StepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                                 // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                                       // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                          // whether g and e at x come from concaveLeftStrongWolfeMTAlphaE3ConfirmGradient
+	confirmed := false                                                          // whether g and e at x come from concaveLeftStrongWolfeMTAlphaE3ConfirmGradient or settle
 	stalled := false                                                            // whether the run can make no more progress at x
 	retried := -1                                                               // the iteration whose stall was retried with recalibrated differences
+	verify := concaveLeftStrongWolfeMTAlphaE3VerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != concaveLeftStrongWolfeMTAlphaE3VerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see concaveLeftStrongWolfeMTAlphaE3ConfirmGradient and settle).
+			calls, ok := concaveLeftStrongWolfeMTAlphaE3Settle(&x, fx, &g, &e, &diffs, verify == concaveLeftStrongWolfeMTAlphaE3VerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(ConcaveLeftStrongWolfeMTAlphaE3OutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !concaveLeftStrongWolfeMTAlphaE3FiniteVec(&g) {
+				return best.ending(ConcaveLeftStrongWolfeMTAlphaE3NonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = concaveLeftStrongWolfeMTAlphaE3VerifyNothing, true
+		case !confirmed:
 			concaveLeftStrongWolfeMTAlphaE3GradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := concaveLeftStrongWolfeMTAlphaE3GradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func concaveLeftStrongWolfeMTAlphaE3Minimize(x0 [1]float64, lim ConcaveLeftStron
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := concaveLeftStrongWolfeMTAlphaE3ConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(ConcaveLeftStrongWolfeMTAlphaE3OutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !concaveLeftStrongWolfeMTAlphaE3FiniteVec(&g) {
-				return best.ending(ConcaveLeftStrongWolfeMTAlphaE3NonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = concaveLeftStrongWolfeMTAlphaE3VerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func concaveLeftStrongWolfeMTAlphaE3Minimize(x0 [1]float64, lim ConcaveLeftStron
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if concaveLeftStrongWolfeMTAlphaE3StepWithin(&s, &x, lim.Step) {
-				calls, ok := concaveLeftStrongWolfeMTAlphaE3Settle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(ConcaveLeftStrongWolfeMTAlphaE3OutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !concaveLeftStrongWolfeMTAlphaE3FiniteVec(&g) {
-					return best.ending(ConcaveLeftStrongWolfeMTAlphaE3NonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = concaveLeftStrongWolfeMTAlphaE3VerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func concaveLeftStrongWolfeMTAlphaE3Minimize(x0 [1]float64, lim ConcaveLeftStron
 			case found.rising:
 				end = ConcaveLeftStrongWolfeMTAlphaE3NoDecrease
 			case found.end == concaveLeftStrongWolfeMTAlphaE3SearchTiny && canSettle:
-				calls, ok := concaveLeftStrongWolfeMTAlphaE3Settle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(ConcaveLeftStrongWolfeMTAlphaE3OutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !concaveLeftStrongWolfeMTAlphaE3FiniteVec(&g) {
-					return best.ending(ConcaveLeftStrongWolfeMTAlphaE3NonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = concaveLeftStrongWolfeMTAlphaE3VerifyStall, true
 				continue
 			case found.end == concaveLeftStrongWolfeMTAlphaE3SearchTiny:
 				end = ConcaveLeftStrongWolfeMTAlphaE3Stalled
@@ -436,51 +424,30 @@ func concaveLeftStrongWolfeMTAlphaE3ScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
-// concaveLeftStrongWolfeMTAlphaE3GradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func concaveLeftStrongWolfeMTAlphaE3GradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *concaveLeftStrongWolfeMTAlphaE3Differences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	concaveLeftStrongWolfeMTAlphaE3VerifyNothing = iota
+	concaveLeftStrongWolfeMTAlphaE3VerifyPass    // a difference gradient passed the test
+	concaveLeftStrongWolfeMTAlphaE3VerifyStall   // no step makes progress
+)
 
-// concaveLeftStrongWolfeMTAlphaE3GradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func concaveLeftStrongWolfeMTAlphaE3GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
-	scale := concaveLeftStrongWolfeMTAlphaE3Larger(concaveLeftStrongWolfeMTAlphaE3Abs(fx), 1)
-	for i := range g {
-		w := concaveLeftStrongWolfeMTAlphaE3Larger(concaveLeftStrongWolfeMTAlphaE3Abs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = concaveLeftStrongWolfeMTAlphaE3Larger(measure, (concaveLeftStrongWolfeMTAlphaE3Abs(g[i])+e[i])*w)
-		floor = concaveLeftStrongWolfeMTAlphaE3Larger(floor, e[i]*w)
+// concaveLeftStrongWolfeMTAlphaE3Settle prepares a verdict at x: with differences it confirms the
+// gradient (concaveLeftStrongWolfeMTAlphaE3ConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (concaveLeftStrongWolfeMTAlphaE3RoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func concaveLeftStrongWolfeMTAlphaE3Settle(x *[1]float64, fx float64, g, e *[1]float64, diffs *concaveLeftStrongWolfeMTAlphaE3Differences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if concaveLeftStrongWolfeMTAlphaE3DerivativeCost > 0 {
+		spent, ok := concaveLeftStrongWolfeMTAlphaE3ConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// concaveLeftStrongWolfeMTAlphaE3Larger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func concaveLeftStrongWolfeMTAlphaE3Larger(a, b float64) float64 {
-	if a > b || a != a {
-		return a
+	if stall {
+		concaveLeftStrongWolfeMTAlphaE3RoundingFloor(x, g, e, diffs)
 	}
-	return b
-}
-
-// concaveLeftStrongWolfeMTAlphaE3Abs returns |v|.
-func concaveLeftStrongWolfeMTAlphaE3Abs(v float64) float64 {
-	if v < 0 {
-		return -v
-	}
-	return v
+	return calls, true
 }
 
 // concaveLeftStrongWolfeMTAlphaE3ConfirmGradient recomputes a difference gradient at x before the run is
@@ -513,33 +480,20 @@ func concaveLeftStrongWolfeMTAlphaE3ConfirmGradient(x *[1]float64, fx float64, g
 	return calls + 2*concaveLeftStrongWolfeMTAlphaE3DerivativeCost, true
 }
 
-// concaveLeftStrongWolfeMTAlphaE3StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func concaveLeftStrongWolfeMTAlphaE3StepWithin(s, x *[1]float64, tol float64) bool {
-	for i := range s {
-		if !(concaveLeftStrongWolfeMTAlphaE3Abs(s[i]) <= tol*(concaveLeftStrongWolfeMTAlphaE3Abs(x[i])+1)) {
-			return false
-		}
+// concaveLeftStrongWolfeMTAlphaE3GradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func concaveLeftStrongWolfeMTAlphaE3GradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *concaveLeftStrongWolfeMTAlphaE3Differences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// concaveLeftStrongWolfeMTAlphaE3Settle prepares the final verdict at a stall: with differences it
-// confirms the gradient (concaveLeftStrongWolfeMTAlphaE3ConfirmGradient), then it adds to each error
-// bound the rounding floor of x (concaveLeftStrongWolfeMTAlphaE3RoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func concaveLeftStrongWolfeMTAlphaE3Settle(x *[1]float64, fx float64, g, e *[1]float64, diffs *concaveLeftStrongWolfeMTAlphaE3Differences, budget int) (int, bool) {
-	calls := 0
-	if concaveLeftStrongWolfeMTAlphaE3DerivativeCost > 0 {
-		spent, ok := concaveLeftStrongWolfeMTAlphaE3ConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// concaveLeftStrongWolfeMTAlphaE3Abs returns |v|.
+func concaveLeftStrongWolfeMTAlphaE3Abs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	concaveLeftStrongWolfeMTAlphaE3RoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // concaveLeftStrongWolfeMTAlphaE3RoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -582,6 +536,49 @@ func concaveLeftStrongWolfeMTAlphaE3ProbeStep(xi, h float64) (float64, float64) 
 // concaveLeftStrongWolfeMTAlphaE3SquareRoot returns √v.
 func concaveLeftStrongWolfeMTAlphaE3SquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// concaveLeftStrongWolfeMTAlphaE3Larger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func concaveLeftStrongWolfeMTAlphaE3Larger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// concaveLeftStrongWolfeMTAlphaE3GradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func concaveLeftStrongWolfeMTAlphaE3GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
+	scale := concaveLeftStrongWolfeMTAlphaE3Larger(concaveLeftStrongWolfeMTAlphaE3Abs(fx), 1)
+	for i := range g {
+		w := concaveLeftStrongWolfeMTAlphaE3Larger(concaveLeftStrongWolfeMTAlphaE3Abs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = concaveLeftStrongWolfeMTAlphaE3Larger(measure, (concaveLeftStrongWolfeMTAlphaE3Abs(g[i])+e[i])*w)
+		floor = concaveLeftStrongWolfeMTAlphaE3Larger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// concaveLeftStrongWolfeMTAlphaE3StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func concaveLeftStrongWolfeMTAlphaE3StepWithin(s, x *[1]float64, tol float64) bool {
+	for i := range s {
+		if !(concaveLeftStrongWolfeMTAlphaE3Abs(s[i]) <= tol*(concaveLeftStrongWolfeMTAlphaE3Abs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // concaveLeftStrongWolfeMTAlphaE3Dot returns aᵀb.

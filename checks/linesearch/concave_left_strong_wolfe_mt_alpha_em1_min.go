@@ -190,11 +190,25 @@ func concaveLeftStrongWolfeMTAlphaEm1Minimize(x0 [1]float64, lim ConcaveLeftStro
 	t, slope := float64(concaveLeftStrongWolfeMTAlphaEm1StepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                                  // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                                        // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                           // whether g and e at x come from concaveLeftStrongWolfeMTAlphaEm1ConfirmGradient
+	confirmed := false                                                           // whether g and e at x come from concaveLeftStrongWolfeMTAlphaEm1ConfirmGradient or settle
 	stalled := false                                                             // whether the run can make no more progress at x
 	retried := -1                                                                // the iteration whose stall was retried with recalibrated differences
+	verify := concaveLeftStrongWolfeMTAlphaEm1VerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != concaveLeftStrongWolfeMTAlphaEm1VerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see concaveLeftStrongWolfeMTAlphaEm1ConfirmGradient and settle).
+			calls, ok := concaveLeftStrongWolfeMTAlphaEm1Settle(&x, fx, &g, &e, &diffs, verify == concaveLeftStrongWolfeMTAlphaEm1VerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(ConcaveLeftStrongWolfeMTAlphaEm1OutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !concaveLeftStrongWolfeMTAlphaEm1FiniteVec(&g) {
+				return best.ending(ConcaveLeftStrongWolfeMTAlphaEm1NonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = concaveLeftStrongWolfeMTAlphaEm1VerifyNothing, true
+		case !confirmed:
 			concaveLeftStrongWolfeMTAlphaEm1GradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := concaveLeftStrongWolfeMTAlphaEm1GradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func concaveLeftStrongWolfeMTAlphaEm1Minimize(x0 [1]float64, lim ConcaveLeftStro
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := concaveLeftStrongWolfeMTAlphaEm1ConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(ConcaveLeftStrongWolfeMTAlphaEm1OutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !concaveLeftStrongWolfeMTAlphaEm1FiniteVec(&g) {
-				return best.ending(ConcaveLeftStrongWolfeMTAlphaEm1NonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = concaveLeftStrongWolfeMTAlphaEm1VerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func concaveLeftStrongWolfeMTAlphaEm1Minimize(x0 [1]float64, lim ConcaveLeftStro
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if concaveLeftStrongWolfeMTAlphaEm1StepWithin(&s, &x, lim.Step) {
-				calls, ok := concaveLeftStrongWolfeMTAlphaEm1Settle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(ConcaveLeftStrongWolfeMTAlphaEm1OutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !concaveLeftStrongWolfeMTAlphaEm1FiniteVec(&g) {
-					return best.ending(ConcaveLeftStrongWolfeMTAlphaEm1NonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = concaveLeftStrongWolfeMTAlphaEm1VerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func concaveLeftStrongWolfeMTAlphaEm1Minimize(x0 [1]float64, lim ConcaveLeftStro
 			case found.rising:
 				end = ConcaveLeftStrongWolfeMTAlphaEm1NoDecrease
 			case found.end == concaveLeftStrongWolfeMTAlphaEm1SearchTiny && canSettle:
-				calls, ok := concaveLeftStrongWolfeMTAlphaEm1Settle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(ConcaveLeftStrongWolfeMTAlphaEm1OutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !concaveLeftStrongWolfeMTAlphaEm1FiniteVec(&g) {
-					return best.ending(ConcaveLeftStrongWolfeMTAlphaEm1NonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = concaveLeftStrongWolfeMTAlphaEm1VerifyStall, true
 				continue
 			case found.end == concaveLeftStrongWolfeMTAlphaEm1SearchTiny:
 				end = ConcaveLeftStrongWolfeMTAlphaEm1Stalled
@@ -436,51 +424,30 @@ func concaveLeftStrongWolfeMTAlphaEm1ScaledTrial(t, slope, now float64) float64 
 	return next
 }
 
-// concaveLeftStrongWolfeMTAlphaEm1GradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func concaveLeftStrongWolfeMTAlphaEm1GradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *concaveLeftStrongWolfeMTAlphaEm1Differences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	concaveLeftStrongWolfeMTAlphaEm1VerifyNothing = iota
+	concaveLeftStrongWolfeMTAlphaEm1VerifyPass    // a difference gradient passed the test
+	concaveLeftStrongWolfeMTAlphaEm1VerifyStall   // no step makes progress
+)
 
-// concaveLeftStrongWolfeMTAlphaEm1GradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func concaveLeftStrongWolfeMTAlphaEm1GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
-	scale := concaveLeftStrongWolfeMTAlphaEm1Larger(concaveLeftStrongWolfeMTAlphaEm1Abs(fx), 1)
-	for i := range g {
-		w := concaveLeftStrongWolfeMTAlphaEm1Larger(concaveLeftStrongWolfeMTAlphaEm1Abs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = concaveLeftStrongWolfeMTAlphaEm1Larger(measure, (concaveLeftStrongWolfeMTAlphaEm1Abs(g[i])+e[i])*w)
-		floor = concaveLeftStrongWolfeMTAlphaEm1Larger(floor, e[i]*w)
+// concaveLeftStrongWolfeMTAlphaEm1Settle prepares a verdict at x: with differences it confirms the
+// gradient (concaveLeftStrongWolfeMTAlphaEm1ConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (concaveLeftStrongWolfeMTAlphaEm1RoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func concaveLeftStrongWolfeMTAlphaEm1Settle(x *[1]float64, fx float64, g, e *[1]float64, diffs *concaveLeftStrongWolfeMTAlphaEm1Differences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if concaveLeftStrongWolfeMTAlphaEm1DerivativeCost > 0 {
+		spent, ok := concaveLeftStrongWolfeMTAlphaEm1ConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// concaveLeftStrongWolfeMTAlphaEm1Larger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func concaveLeftStrongWolfeMTAlphaEm1Larger(a, b float64) float64 {
-	if a > b || a != a {
-		return a
+	if stall {
+		concaveLeftStrongWolfeMTAlphaEm1RoundingFloor(x, g, e, diffs)
 	}
-	return b
-}
-
-// concaveLeftStrongWolfeMTAlphaEm1Abs returns |v|.
-func concaveLeftStrongWolfeMTAlphaEm1Abs(v float64) float64 {
-	if v < 0 {
-		return -v
-	}
-	return v
+	return calls, true
 }
 
 // concaveLeftStrongWolfeMTAlphaEm1ConfirmGradient recomputes a difference gradient at x before the run is
@@ -513,33 +480,20 @@ func concaveLeftStrongWolfeMTAlphaEm1ConfirmGradient(x *[1]float64, fx float64, 
 	return calls + 2*concaveLeftStrongWolfeMTAlphaEm1DerivativeCost, true
 }
 
-// concaveLeftStrongWolfeMTAlphaEm1StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func concaveLeftStrongWolfeMTAlphaEm1StepWithin(s, x *[1]float64, tol float64) bool {
-	for i := range s {
-		if !(concaveLeftStrongWolfeMTAlphaEm1Abs(s[i]) <= tol*(concaveLeftStrongWolfeMTAlphaEm1Abs(x[i])+1)) {
-			return false
-		}
+// concaveLeftStrongWolfeMTAlphaEm1GradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func concaveLeftStrongWolfeMTAlphaEm1GradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *concaveLeftStrongWolfeMTAlphaEm1Differences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// concaveLeftStrongWolfeMTAlphaEm1Settle prepares the final verdict at a stall: with differences it
-// confirms the gradient (concaveLeftStrongWolfeMTAlphaEm1ConfirmGradient), then it adds to each error
-// bound the rounding floor of x (concaveLeftStrongWolfeMTAlphaEm1RoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func concaveLeftStrongWolfeMTAlphaEm1Settle(x *[1]float64, fx float64, g, e *[1]float64, diffs *concaveLeftStrongWolfeMTAlphaEm1Differences, budget int) (int, bool) {
-	calls := 0
-	if concaveLeftStrongWolfeMTAlphaEm1DerivativeCost > 0 {
-		spent, ok := concaveLeftStrongWolfeMTAlphaEm1ConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// concaveLeftStrongWolfeMTAlphaEm1Abs returns |v|.
+func concaveLeftStrongWolfeMTAlphaEm1Abs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	concaveLeftStrongWolfeMTAlphaEm1RoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // concaveLeftStrongWolfeMTAlphaEm1RoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -582,6 +536,49 @@ func concaveLeftStrongWolfeMTAlphaEm1ProbeStep(xi, h float64) (float64, float64)
 // concaveLeftStrongWolfeMTAlphaEm1SquareRoot returns √v.
 func concaveLeftStrongWolfeMTAlphaEm1SquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// concaveLeftStrongWolfeMTAlphaEm1Larger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func concaveLeftStrongWolfeMTAlphaEm1Larger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// concaveLeftStrongWolfeMTAlphaEm1GradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func concaveLeftStrongWolfeMTAlphaEm1GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
+	scale := concaveLeftStrongWolfeMTAlphaEm1Larger(concaveLeftStrongWolfeMTAlphaEm1Abs(fx), 1)
+	for i := range g {
+		w := concaveLeftStrongWolfeMTAlphaEm1Larger(concaveLeftStrongWolfeMTAlphaEm1Abs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = concaveLeftStrongWolfeMTAlphaEm1Larger(measure, (concaveLeftStrongWolfeMTAlphaEm1Abs(g[i])+e[i])*w)
+		floor = concaveLeftStrongWolfeMTAlphaEm1Larger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// concaveLeftStrongWolfeMTAlphaEm1StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func concaveLeftStrongWolfeMTAlphaEm1StepWithin(s, x *[1]float64, tol float64) bool {
+	for i := range s {
+		if !(concaveLeftStrongWolfeMTAlphaEm1Abs(s[i]) <= tol*(concaveLeftStrongWolfeMTAlphaEm1Abs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // concaveLeftStrongWolfeMTAlphaEm1Dot returns aᵀb.

@@ -190,11 +190,25 @@ func concaveLeftWolfeMTAlphaE3Minimize(x0 [1]float64, lim ConcaveLeftWolfeMTAlph
 	t, slope := float64(concaveLeftWolfeMTAlphaE3StepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                           // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                                 // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                    // whether g and e at x come from concaveLeftWolfeMTAlphaE3ConfirmGradient
+	confirmed := false                                                    // whether g and e at x come from concaveLeftWolfeMTAlphaE3ConfirmGradient or settle
 	stalled := false                                                      // whether the run can make no more progress at x
 	retried := -1                                                         // the iteration whose stall was retried with recalibrated differences
+	verify := concaveLeftWolfeMTAlphaE3VerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != concaveLeftWolfeMTAlphaE3VerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see concaveLeftWolfeMTAlphaE3ConfirmGradient and settle).
+			calls, ok := concaveLeftWolfeMTAlphaE3Settle(&x, fx, &g, &e, &diffs, verify == concaveLeftWolfeMTAlphaE3VerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(ConcaveLeftWolfeMTAlphaE3OutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !concaveLeftWolfeMTAlphaE3FiniteVec(&g) {
+				return best.ending(ConcaveLeftWolfeMTAlphaE3NonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = concaveLeftWolfeMTAlphaE3VerifyNothing, true
+		case !confirmed:
 			concaveLeftWolfeMTAlphaE3GradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := concaveLeftWolfeMTAlphaE3GradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func concaveLeftWolfeMTAlphaE3Minimize(x0 [1]float64, lim ConcaveLeftWolfeMTAlph
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := concaveLeftWolfeMTAlphaE3ConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(ConcaveLeftWolfeMTAlphaE3OutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !concaveLeftWolfeMTAlphaE3FiniteVec(&g) {
-				return best.ending(ConcaveLeftWolfeMTAlphaE3NonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = concaveLeftWolfeMTAlphaE3VerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func concaveLeftWolfeMTAlphaE3Minimize(x0 [1]float64, lim ConcaveLeftWolfeMTAlph
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if concaveLeftWolfeMTAlphaE3StepWithin(&s, &x, lim.Step) {
-				calls, ok := concaveLeftWolfeMTAlphaE3Settle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(ConcaveLeftWolfeMTAlphaE3OutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !concaveLeftWolfeMTAlphaE3FiniteVec(&g) {
-					return best.ending(ConcaveLeftWolfeMTAlphaE3NonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = concaveLeftWolfeMTAlphaE3VerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func concaveLeftWolfeMTAlphaE3Minimize(x0 [1]float64, lim ConcaveLeftWolfeMTAlph
 			case found.rising:
 				end = ConcaveLeftWolfeMTAlphaE3NoDecrease
 			case found.end == concaveLeftWolfeMTAlphaE3SearchTiny && canSettle:
-				calls, ok := concaveLeftWolfeMTAlphaE3Settle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(ConcaveLeftWolfeMTAlphaE3OutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !concaveLeftWolfeMTAlphaE3FiniteVec(&g) {
-					return best.ending(ConcaveLeftWolfeMTAlphaE3NonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = concaveLeftWolfeMTAlphaE3VerifyStall, true
 				continue
 			case found.end == concaveLeftWolfeMTAlphaE3SearchTiny:
 				end = ConcaveLeftWolfeMTAlphaE3Stalled
@@ -436,51 +424,30 @@ func concaveLeftWolfeMTAlphaE3ScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
-// concaveLeftWolfeMTAlphaE3GradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func concaveLeftWolfeMTAlphaE3GradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *concaveLeftWolfeMTAlphaE3Differences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	concaveLeftWolfeMTAlphaE3VerifyNothing = iota
+	concaveLeftWolfeMTAlphaE3VerifyPass    // a difference gradient passed the test
+	concaveLeftWolfeMTAlphaE3VerifyStall   // no step makes progress
+)
 
-// concaveLeftWolfeMTAlphaE3GradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func concaveLeftWolfeMTAlphaE3GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
-	scale := concaveLeftWolfeMTAlphaE3Larger(concaveLeftWolfeMTAlphaE3Abs(fx), 1)
-	for i := range g {
-		w := concaveLeftWolfeMTAlphaE3Larger(concaveLeftWolfeMTAlphaE3Abs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = concaveLeftWolfeMTAlphaE3Larger(measure, (concaveLeftWolfeMTAlphaE3Abs(g[i])+e[i])*w)
-		floor = concaveLeftWolfeMTAlphaE3Larger(floor, e[i]*w)
+// concaveLeftWolfeMTAlphaE3Settle prepares a verdict at x: with differences it confirms the
+// gradient (concaveLeftWolfeMTAlphaE3ConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (concaveLeftWolfeMTAlphaE3RoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func concaveLeftWolfeMTAlphaE3Settle(x *[1]float64, fx float64, g, e *[1]float64, diffs *concaveLeftWolfeMTAlphaE3Differences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if concaveLeftWolfeMTAlphaE3DerivativeCost > 0 {
+		spent, ok := concaveLeftWolfeMTAlphaE3ConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// concaveLeftWolfeMTAlphaE3Larger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func concaveLeftWolfeMTAlphaE3Larger(a, b float64) float64 {
-	if a > b || a != a {
-		return a
+	if stall {
+		concaveLeftWolfeMTAlphaE3RoundingFloor(x, g, e, diffs)
 	}
-	return b
-}
-
-// concaveLeftWolfeMTAlphaE3Abs returns |v|.
-func concaveLeftWolfeMTAlphaE3Abs(v float64) float64 {
-	if v < 0 {
-		return -v
-	}
-	return v
+	return calls, true
 }
 
 // concaveLeftWolfeMTAlphaE3ConfirmGradient recomputes a difference gradient at x before the run is
@@ -513,33 +480,20 @@ func concaveLeftWolfeMTAlphaE3ConfirmGradient(x *[1]float64, fx float64, g, e *[
 	return calls + 2*concaveLeftWolfeMTAlphaE3DerivativeCost, true
 }
 
-// concaveLeftWolfeMTAlphaE3StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func concaveLeftWolfeMTAlphaE3StepWithin(s, x *[1]float64, tol float64) bool {
-	for i := range s {
-		if !(concaveLeftWolfeMTAlphaE3Abs(s[i]) <= tol*(concaveLeftWolfeMTAlphaE3Abs(x[i])+1)) {
-			return false
-		}
+// concaveLeftWolfeMTAlphaE3GradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func concaveLeftWolfeMTAlphaE3GradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *concaveLeftWolfeMTAlphaE3Differences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// concaveLeftWolfeMTAlphaE3Settle prepares the final verdict at a stall: with differences it
-// confirms the gradient (concaveLeftWolfeMTAlphaE3ConfirmGradient), then it adds to each error
-// bound the rounding floor of x (concaveLeftWolfeMTAlphaE3RoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func concaveLeftWolfeMTAlphaE3Settle(x *[1]float64, fx float64, g, e *[1]float64, diffs *concaveLeftWolfeMTAlphaE3Differences, budget int) (int, bool) {
-	calls := 0
-	if concaveLeftWolfeMTAlphaE3DerivativeCost > 0 {
-		spent, ok := concaveLeftWolfeMTAlphaE3ConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// concaveLeftWolfeMTAlphaE3Abs returns |v|.
+func concaveLeftWolfeMTAlphaE3Abs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	concaveLeftWolfeMTAlphaE3RoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // concaveLeftWolfeMTAlphaE3RoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -582,6 +536,49 @@ func concaveLeftWolfeMTAlphaE3ProbeStep(xi, h float64) (float64, float64) {
 // concaveLeftWolfeMTAlphaE3SquareRoot returns √v.
 func concaveLeftWolfeMTAlphaE3SquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// concaveLeftWolfeMTAlphaE3Larger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func concaveLeftWolfeMTAlphaE3Larger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// concaveLeftWolfeMTAlphaE3GradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func concaveLeftWolfeMTAlphaE3GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
+	scale := concaveLeftWolfeMTAlphaE3Larger(concaveLeftWolfeMTAlphaE3Abs(fx), 1)
+	for i := range g {
+		w := concaveLeftWolfeMTAlphaE3Larger(concaveLeftWolfeMTAlphaE3Abs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = concaveLeftWolfeMTAlphaE3Larger(measure, (concaveLeftWolfeMTAlphaE3Abs(g[i])+e[i])*w)
+		floor = concaveLeftWolfeMTAlphaE3Larger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// concaveLeftWolfeMTAlphaE3StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func concaveLeftWolfeMTAlphaE3StepWithin(s, x *[1]float64, tol float64) bool {
+	for i := range s {
+		if !(concaveLeftWolfeMTAlphaE3Abs(s[i]) <= tol*(concaveLeftWolfeMTAlphaE3Abs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // concaveLeftWolfeMTAlphaE3Dot returns aᵀb.

@@ -190,11 +190,25 @@ func concaveLeftWolfeNWAlphaE3Minimize(x0 [1]float64, lim ConcaveLeftWolfeNWAlph
 	t, slope := float64(concaveLeftWolfeNWAlphaE3StepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                           // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                                 // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                    // whether g and e at x come from concaveLeftWolfeNWAlphaE3ConfirmGradient
+	confirmed := false                                                    // whether g and e at x come from concaveLeftWolfeNWAlphaE3ConfirmGradient or settle
 	stalled := false                                                      // whether the run can make no more progress at x
 	retried := -1                                                         // the iteration whose stall was retried with recalibrated differences
+	verify := concaveLeftWolfeNWAlphaE3VerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != concaveLeftWolfeNWAlphaE3VerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see concaveLeftWolfeNWAlphaE3ConfirmGradient and settle).
+			calls, ok := concaveLeftWolfeNWAlphaE3Settle(&x, fx, &g, &e, &diffs, verify == concaveLeftWolfeNWAlphaE3VerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(ConcaveLeftWolfeNWAlphaE3OutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !concaveLeftWolfeNWAlphaE3FiniteVec(&g) {
+				return best.ending(ConcaveLeftWolfeNWAlphaE3NonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = concaveLeftWolfeNWAlphaE3VerifyNothing, true
+		case !confirmed:
 			concaveLeftWolfeNWAlphaE3GradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := concaveLeftWolfeNWAlphaE3GradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func concaveLeftWolfeNWAlphaE3Minimize(x0 [1]float64, lim ConcaveLeftWolfeNWAlph
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := concaveLeftWolfeNWAlphaE3ConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(ConcaveLeftWolfeNWAlphaE3OutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !concaveLeftWolfeNWAlphaE3FiniteVec(&g) {
-				return best.ending(ConcaveLeftWolfeNWAlphaE3NonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = concaveLeftWolfeNWAlphaE3VerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func concaveLeftWolfeNWAlphaE3Minimize(x0 [1]float64, lim ConcaveLeftWolfeNWAlph
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if concaveLeftWolfeNWAlphaE3StepWithin(&s, &x, lim.Step) {
-				calls, ok := concaveLeftWolfeNWAlphaE3Settle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(ConcaveLeftWolfeNWAlphaE3OutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !concaveLeftWolfeNWAlphaE3FiniteVec(&g) {
-					return best.ending(ConcaveLeftWolfeNWAlphaE3NonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = concaveLeftWolfeNWAlphaE3VerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func concaveLeftWolfeNWAlphaE3Minimize(x0 [1]float64, lim ConcaveLeftWolfeNWAlph
 			case found.rising:
 				end = ConcaveLeftWolfeNWAlphaE3NoDecrease
 			case found.end == concaveLeftWolfeNWAlphaE3SearchTiny && canSettle:
-				calls, ok := concaveLeftWolfeNWAlphaE3Settle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(ConcaveLeftWolfeNWAlphaE3OutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !concaveLeftWolfeNWAlphaE3FiniteVec(&g) {
-					return best.ending(ConcaveLeftWolfeNWAlphaE3NonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = concaveLeftWolfeNWAlphaE3VerifyStall, true
 				continue
 			case found.end == concaveLeftWolfeNWAlphaE3SearchTiny:
 				end = ConcaveLeftWolfeNWAlphaE3Stalled
@@ -436,51 +424,30 @@ func concaveLeftWolfeNWAlphaE3ScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
-// concaveLeftWolfeNWAlphaE3GradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func concaveLeftWolfeNWAlphaE3GradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *concaveLeftWolfeNWAlphaE3Differences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	concaveLeftWolfeNWAlphaE3VerifyNothing = iota
+	concaveLeftWolfeNWAlphaE3VerifyPass    // a difference gradient passed the test
+	concaveLeftWolfeNWAlphaE3VerifyStall   // no step makes progress
+)
 
-// concaveLeftWolfeNWAlphaE3GradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func concaveLeftWolfeNWAlphaE3GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
-	scale := concaveLeftWolfeNWAlphaE3Larger(concaveLeftWolfeNWAlphaE3Abs(fx), 1)
-	for i := range g {
-		w := concaveLeftWolfeNWAlphaE3Larger(concaveLeftWolfeNWAlphaE3Abs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = concaveLeftWolfeNWAlphaE3Larger(measure, (concaveLeftWolfeNWAlphaE3Abs(g[i])+e[i])*w)
-		floor = concaveLeftWolfeNWAlphaE3Larger(floor, e[i]*w)
+// concaveLeftWolfeNWAlphaE3Settle prepares a verdict at x: with differences it confirms the
+// gradient (concaveLeftWolfeNWAlphaE3ConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (concaveLeftWolfeNWAlphaE3RoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func concaveLeftWolfeNWAlphaE3Settle(x *[1]float64, fx float64, g, e *[1]float64, diffs *concaveLeftWolfeNWAlphaE3Differences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if concaveLeftWolfeNWAlphaE3DerivativeCost > 0 {
+		spent, ok := concaveLeftWolfeNWAlphaE3ConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// concaveLeftWolfeNWAlphaE3Larger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func concaveLeftWolfeNWAlphaE3Larger(a, b float64) float64 {
-	if a > b || a != a {
-		return a
+	if stall {
+		concaveLeftWolfeNWAlphaE3RoundingFloor(x, g, e, diffs)
 	}
-	return b
-}
-
-// concaveLeftWolfeNWAlphaE3Abs returns |v|.
-func concaveLeftWolfeNWAlphaE3Abs(v float64) float64 {
-	if v < 0 {
-		return -v
-	}
-	return v
+	return calls, true
 }
 
 // concaveLeftWolfeNWAlphaE3ConfirmGradient recomputes a difference gradient at x before the run is
@@ -513,33 +480,20 @@ func concaveLeftWolfeNWAlphaE3ConfirmGradient(x *[1]float64, fx float64, g, e *[
 	return calls + 2*concaveLeftWolfeNWAlphaE3DerivativeCost, true
 }
 
-// concaveLeftWolfeNWAlphaE3StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func concaveLeftWolfeNWAlphaE3StepWithin(s, x *[1]float64, tol float64) bool {
-	for i := range s {
-		if !(concaveLeftWolfeNWAlphaE3Abs(s[i]) <= tol*(concaveLeftWolfeNWAlphaE3Abs(x[i])+1)) {
-			return false
-		}
+// concaveLeftWolfeNWAlphaE3GradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func concaveLeftWolfeNWAlphaE3GradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *concaveLeftWolfeNWAlphaE3Differences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// concaveLeftWolfeNWAlphaE3Settle prepares the final verdict at a stall: with differences it
-// confirms the gradient (concaveLeftWolfeNWAlphaE3ConfirmGradient), then it adds to each error
-// bound the rounding floor of x (concaveLeftWolfeNWAlphaE3RoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func concaveLeftWolfeNWAlphaE3Settle(x *[1]float64, fx float64, g, e *[1]float64, diffs *concaveLeftWolfeNWAlphaE3Differences, budget int) (int, bool) {
-	calls := 0
-	if concaveLeftWolfeNWAlphaE3DerivativeCost > 0 {
-		spent, ok := concaveLeftWolfeNWAlphaE3ConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// concaveLeftWolfeNWAlphaE3Abs returns |v|.
+func concaveLeftWolfeNWAlphaE3Abs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	concaveLeftWolfeNWAlphaE3RoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // concaveLeftWolfeNWAlphaE3RoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -582,6 +536,49 @@ func concaveLeftWolfeNWAlphaE3ProbeStep(xi, h float64) (float64, float64) {
 // concaveLeftWolfeNWAlphaE3SquareRoot returns √v.
 func concaveLeftWolfeNWAlphaE3SquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// concaveLeftWolfeNWAlphaE3Larger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func concaveLeftWolfeNWAlphaE3Larger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// concaveLeftWolfeNWAlphaE3GradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func concaveLeftWolfeNWAlphaE3GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
+	scale := concaveLeftWolfeNWAlphaE3Larger(concaveLeftWolfeNWAlphaE3Abs(fx), 1)
+	for i := range g {
+		w := concaveLeftWolfeNWAlphaE3Larger(concaveLeftWolfeNWAlphaE3Abs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = concaveLeftWolfeNWAlphaE3Larger(measure, (concaveLeftWolfeNWAlphaE3Abs(g[i])+e[i])*w)
+		floor = concaveLeftWolfeNWAlphaE3Larger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// concaveLeftWolfeNWAlphaE3StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func concaveLeftWolfeNWAlphaE3StepWithin(s, x *[1]float64, tol float64) bool {
+	for i := range s {
+		if !(concaveLeftWolfeNWAlphaE3Abs(s[i]) <= tol*(concaveLeftWolfeNWAlphaE3Abs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // concaveLeftWolfeNWAlphaE3Dot returns aᵀb.

@@ -190,11 +190,25 @@ func concaveLeftWolfeNWAlphaEm1Minimize(x0 [1]float64, lim ConcaveLeftWolfeNWAlp
 	t, slope := float64(concaveLeftWolfeNWAlphaEm1StepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                            // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                                  // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                     // whether g and e at x come from concaveLeftWolfeNWAlphaEm1ConfirmGradient
+	confirmed := false                                                     // whether g and e at x come from concaveLeftWolfeNWAlphaEm1ConfirmGradient or settle
 	stalled := false                                                       // whether the run can make no more progress at x
 	retried := -1                                                          // the iteration whose stall was retried with recalibrated differences
+	verify := concaveLeftWolfeNWAlphaEm1VerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != concaveLeftWolfeNWAlphaEm1VerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see concaveLeftWolfeNWAlphaEm1ConfirmGradient and settle).
+			calls, ok := concaveLeftWolfeNWAlphaEm1Settle(&x, fx, &g, &e, &diffs, verify == concaveLeftWolfeNWAlphaEm1VerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(ConcaveLeftWolfeNWAlphaEm1OutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !concaveLeftWolfeNWAlphaEm1FiniteVec(&g) {
+				return best.ending(ConcaveLeftWolfeNWAlphaEm1NonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = concaveLeftWolfeNWAlphaEm1VerifyNothing, true
+		case !confirmed:
 			concaveLeftWolfeNWAlphaEm1GradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := concaveLeftWolfeNWAlphaEm1GradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func concaveLeftWolfeNWAlphaEm1Minimize(x0 [1]float64, lim ConcaveLeftWolfeNWAlp
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := concaveLeftWolfeNWAlphaEm1ConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(ConcaveLeftWolfeNWAlphaEm1OutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !concaveLeftWolfeNWAlphaEm1FiniteVec(&g) {
-				return best.ending(ConcaveLeftWolfeNWAlphaEm1NonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = concaveLeftWolfeNWAlphaEm1VerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func concaveLeftWolfeNWAlphaEm1Minimize(x0 [1]float64, lim ConcaveLeftWolfeNWAlp
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if concaveLeftWolfeNWAlphaEm1StepWithin(&s, &x, lim.Step) {
-				calls, ok := concaveLeftWolfeNWAlphaEm1Settle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(ConcaveLeftWolfeNWAlphaEm1OutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !concaveLeftWolfeNWAlphaEm1FiniteVec(&g) {
-					return best.ending(ConcaveLeftWolfeNWAlphaEm1NonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = concaveLeftWolfeNWAlphaEm1VerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func concaveLeftWolfeNWAlphaEm1Minimize(x0 [1]float64, lim ConcaveLeftWolfeNWAlp
 			case found.rising:
 				end = ConcaveLeftWolfeNWAlphaEm1NoDecrease
 			case found.end == concaveLeftWolfeNWAlphaEm1SearchTiny && canSettle:
-				calls, ok := concaveLeftWolfeNWAlphaEm1Settle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(ConcaveLeftWolfeNWAlphaEm1OutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !concaveLeftWolfeNWAlphaEm1FiniteVec(&g) {
-					return best.ending(ConcaveLeftWolfeNWAlphaEm1NonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = concaveLeftWolfeNWAlphaEm1VerifyStall, true
 				continue
 			case found.end == concaveLeftWolfeNWAlphaEm1SearchTiny:
 				end = ConcaveLeftWolfeNWAlphaEm1Stalled
@@ -436,51 +424,30 @@ func concaveLeftWolfeNWAlphaEm1ScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
-// concaveLeftWolfeNWAlphaEm1GradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func concaveLeftWolfeNWAlphaEm1GradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *concaveLeftWolfeNWAlphaEm1Differences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	concaveLeftWolfeNWAlphaEm1VerifyNothing = iota
+	concaveLeftWolfeNWAlphaEm1VerifyPass    // a difference gradient passed the test
+	concaveLeftWolfeNWAlphaEm1VerifyStall   // no step makes progress
+)
 
-// concaveLeftWolfeNWAlphaEm1GradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func concaveLeftWolfeNWAlphaEm1GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
-	scale := concaveLeftWolfeNWAlphaEm1Larger(concaveLeftWolfeNWAlphaEm1Abs(fx), 1)
-	for i := range g {
-		w := concaveLeftWolfeNWAlphaEm1Larger(concaveLeftWolfeNWAlphaEm1Abs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = concaveLeftWolfeNWAlphaEm1Larger(measure, (concaveLeftWolfeNWAlphaEm1Abs(g[i])+e[i])*w)
-		floor = concaveLeftWolfeNWAlphaEm1Larger(floor, e[i]*w)
+// concaveLeftWolfeNWAlphaEm1Settle prepares a verdict at x: with differences it confirms the
+// gradient (concaveLeftWolfeNWAlphaEm1ConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (concaveLeftWolfeNWAlphaEm1RoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func concaveLeftWolfeNWAlphaEm1Settle(x *[1]float64, fx float64, g, e *[1]float64, diffs *concaveLeftWolfeNWAlphaEm1Differences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if concaveLeftWolfeNWAlphaEm1DerivativeCost > 0 {
+		spent, ok := concaveLeftWolfeNWAlphaEm1ConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// concaveLeftWolfeNWAlphaEm1Larger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func concaveLeftWolfeNWAlphaEm1Larger(a, b float64) float64 {
-	if a > b || a != a {
-		return a
+	if stall {
+		concaveLeftWolfeNWAlphaEm1RoundingFloor(x, g, e, diffs)
 	}
-	return b
-}
-
-// concaveLeftWolfeNWAlphaEm1Abs returns |v|.
-func concaveLeftWolfeNWAlphaEm1Abs(v float64) float64 {
-	if v < 0 {
-		return -v
-	}
-	return v
+	return calls, true
 }
 
 // concaveLeftWolfeNWAlphaEm1ConfirmGradient recomputes a difference gradient at x before the run is
@@ -513,33 +480,20 @@ func concaveLeftWolfeNWAlphaEm1ConfirmGradient(x *[1]float64, fx float64, g, e *
 	return calls + 2*concaveLeftWolfeNWAlphaEm1DerivativeCost, true
 }
 
-// concaveLeftWolfeNWAlphaEm1StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func concaveLeftWolfeNWAlphaEm1StepWithin(s, x *[1]float64, tol float64) bool {
-	for i := range s {
-		if !(concaveLeftWolfeNWAlphaEm1Abs(s[i]) <= tol*(concaveLeftWolfeNWAlphaEm1Abs(x[i])+1)) {
-			return false
-		}
+// concaveLeftWolfeNWAlphaEm1GradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func concaveLeftWolfeNWAlphaEm1GradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *concaveLeftWolfeNWAlphaEm1Differences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// concaveLeftWolfeNWAlphaEm1Settle prepares the final verdict at a stall: with differences it
-// confirms the gradient (concaveLeftWolfeNWAlphaEm1ConfirmGradient), then it adds to each error
-// bound the rounding floor of x (concaveLeftWolfeNWAlphaEm1RoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func concaveLeftWolfeNWAlphaEm1Settle(x *[1]float64, fx float64, g, e *[1]float64, diffs *concaveLeftWolfeNWAlphaEm1Differences, budget int) (int, bool) {
-	calls := 0
-	if concaveLeftWolfeNWAlphaEm1DerivativeCost > 0 {
-		spent, ok := concaveLeftWolfeNWAlphaEm1ConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// concaveLeftWolfeNWAlphaEm1Abs returns |v|.
+func concaveLeftWolfeNWAlphaEm1Abs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	concaveLeftWolfeNWAlphaEm1RoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // concaveLeftWolfeNWAlphaEm1RoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -582,6 +536,49 @@ func concaveLeftWolfeNWAlphaEm1ProbeStep(xi, h float64) (float64, float64) {
 // concaveLeftWolfeNWAlphaEm1SquareRoot returns √v.
 func concaveLeftWolfeNWAlphaEm1SquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// concaveLeftWolfeNWAlphaEm1Larger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func concaveLeftWolfeNWAlphaEm1Larger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// concaveLeftWolfeNWAlphaEm1GradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func concaveLeftWolfeNWAlphaEm1GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
+	scale := concaveLeftWolfeNWAlphaEm1Larger(concaveLeftWolfeNWAlphaEm1Abs(fx), 1)
+	for i := range g {
+		w := concaveLeftWolfeNWAlphaEm1Larger(concaveLeftWolfeNWAlphaEm1Abs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = concaveLeftWolfeNWAlphaEm1Larger(measure, (concaveLeftWolfeNWAlphaEm1Abs(g[i])+e[i])*w)
+		floor = concaveLeftWolfeNWAlphaEm1Larger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// concaveLeftWolfeNWAlphaEm1StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func concaveLeftWolfeNWAlphaEm1StepWithin(s, x *[1]float64, tol float64) bool {
+	for i := range s {
+		if !(concaveLeftWolfeNWAlphaEm1Abs(s[i]) <= tol*(concaveLeftWolfeNWAlphaEm1Abs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // concaveLeftWolfeNWAlphaEm1Dot returns aᵀb.

@@ -190,11 +190,25 @@ func concaveRightStrongWolfeMTAlphaE1Minimize(x0 [1]float64, lim ConcaveRightStr
 	t, slope := float64(concaveRightStrongWolfeMTAlphaE1StepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                                  // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                                        // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                           // whether g and e at x come from concaveRightStrongWolfeMTAlphaE1ConfirmGradient
+	confirmed := false                                                           // whether g and e at x come from concaveRightStrongWolfeMTAlphaE1ConfirmGradient or settle
 	stalled := false                                                             // whether the run can make no more progress at x
 	retried := -1                                                                // the iteration whose stall was retried with recalibrated differences
+	verify := concaveRightStrongWolfeMTAlphaE1VerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != concaveRightStrongWolfeMTAlphaE1VerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see concaveRightStrongWolfeMTAlphaE1ConfirmGradient and settle).
+			calls, ok := concaveRightStrongWolfeMTAlphaE1Settle(&x, fx, &g, &e, &diffs, verify == concaveRightStrongWolfeMTAlphaE1VerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(ConcaveRightStrongWolfeMTAlphaE1OutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !concaveRightStrongWolfeMTAlphaE1FiniteVec(&g) {
+				return best.ending(ConcaveRightStrongWolfeMTAlphaE1NonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = concaveRightStrongWolfeMTAlphaE1VerifyNothing, true
+		case !confirmed:
 			concaveRightStrongWolfeMTAlphaE1GradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := concaveRightStrongWolfeMTAlphaE1GradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func concaveRightStrongWolfeMTAlphaE1Minimize(x0 [1]float64, lim ConcaveRightStr
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := concaveRightStrongWolfeMTAlphaE1ConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(ConcaveRightStrongWolfeMTAlphaE1OutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !concaveRightStrongWolfeMTAlphaE1FiniteVec(&g) {
-				return best.ending(ConcaveRightStrongWolfeMTAlphaE1NonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = concaveRightStrongWolfeMTAlphaE1VerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func concaveRightStrongWolfeMTAlphaE1Minimize(x0 [1]float64, lim ConcaveRightStr
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if concaveRightStrongWolfeMTAlphaE1StepWithin(&s, &x, lim.Step) {
-				calls, ok := concaveRightStrongWolfeMTAlphaE1Settle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(ConcaveRightStrongWolfeMTAlphaE1OutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !concaveRightStrongWolfeMTAlphaE1FiniteVec(&g) {
-					return best.ending(ConcaveRightStrongWolfeMTAlphaE1NonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = concaveRightStrongWolfeMTAlphaE1VerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func concaveRightStrongWolfeMTAlphaE1Minimize(x0 [1]float64, lim ConcaveRightStr
 			case found.rising:
 				end = ConcaveRightStrongWolfeMTAlphaE1NoDecrease
 			case found.end == concaveRightStrongWolfeMTAlphaE1SearchTiny && canSettle:
-				calls, ok := concaveRightStrongWolfeMTAlphaE1Settle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(ConcaveRightStrongWolfeMTAlphaE1OutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !concaveRightStrongWolfeMTAlphaE1FiniteVec(&g) {
-					return best.ending(ConcaveRightStrongWolfeMTAlphaE1NonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = concaveRightStrongWolfeMTAlphaE1VerifyStall, true
 				continue
 			case found.end == concaveRightStrongWolfeMTAlphaE1SearchTiny:
 				end = ConcaveRightStrongWolfeMTAlphaE1Stalled
@@ -436,51 +424,30 @@ func concaveRightStrongWolfeMTAlphaE1ScaledTrial(t, slope, now float64) float64 
 	return next
 }
 
-// concaveRightStrongWolfeMTAlphaE1GradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func concaveRightStrongWolfeMTAlphaE1GradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *concaveRightStrongWolfeMTAlphaE1Differences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	concaveRightStrongWolfeMTAlphaE1VerifyNothing = iota
+	concaveRightStrongWolfeMTAlphaE1VerifyPass    // a difference gradient passed the test
+	concaveRightStrongWolfeMTAlphaE1VerifyStall   // no step makes progress
+)
 
-// concaveRightStrongWolfeMTAlphaE1GradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func concaveRightStrongWolfeMTAlphaE1GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
-	scale := concaveRightStrongWolfeMTAlphaE1Larger(concaveRightStrongWolfeMTAlphaE1Abs(fx), 1)
-	for i := range g {
-		w := concaveRightStrongWolfeMTAlphaE1Larger(concaveRightStrongWolfeMTAlphaE1Abs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = concaveRightStrongWolfeMTAlphaE1Larger(measure, (concaveRightStrongWolfeMTAlphaE1Abs(g[i])+e[i])*w)
-		floor = concaveRightStrongWolfeMTAlphaE1Larger(floor, e[i]*w)
+// concaveRightStrongWolfeMTAlphaE1Settle prepares a verdict at x: with differences it confirms the
+// gradient (concaveRightStrongWolfeMTAlphaE1ConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (concaveRightStrongWolfeMTAlphaE1RoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func concaveRightStrongWolfeMTAlphaE1Settle(x *[1]float64, fx float64, g, e *[1]float64, diffs *concaveRightStrongWolfeMTAlphaE1Differences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if concaveRightStrongWolfeMTAlphaE1DerivativeCost > 0 {
+		spent, ok := concaveRightStrongWolfeMTAlphaE1ConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// concaveRightStrongWolfeMTAlphaE1Larger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func concaveRightStrongWolfeMTAlphaE1Larger(a, b float64) float64 {
-	if a > b || a != a {
-		return a
+	if stall {
+		concaveRightStrongWolfeMTAlphaE1RoundingFloor(x, g, e, diffs)
 	}
-	return b
-}
-
-// concaveRightStrongWolfeMTAlphaE1Abs returns |v|.
-func concaveRightStrongWolfeMTAlphaE1Abs(v float64) float64 {
-	if v < 0 {
-		return -v
-	}
-	return v
+	return calls, true
 }
 
 // concaveRightStrongWolfeMTAlphaE1ConfirmGradient recomputes a difference gradient at x before the run is
@@ -513,33 +480,20 @@ func concaveRightStrongWolfeMTAlphaE1ConfirmGradient(x *[1]float64, fx float64, 
 	return calls + 2*concaveRightStrongWolfeMTAlphaE1DerivativeCost, true
 }
 
-// concaveRightStrongWolfeMTAlphaE1StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func concaveRightStrongWolfeMTAlphaE1StepWithin(s, x *[1]float64, tol float64) bool {
-	for i := range s {
-		if !(concaveRightStrongWolfeMTAlphaE1Abs(s[i]) <= tol*(concaveRightStrongWolfeMTAlphaE1Abs(x[i])+1)) {
-			return false
-		}
+// concaveRightStrongWolfeMTAlphaE1GradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func concaveRightStrongWolfeMTAlphaE1GradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *concaveRightStrongWolfeMTAlphaE1Differences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// concaveRightStrongWolfeMTAlphaE1Settle prepares the final verdict at a stall: with differences it
-// confirms the gradient (concaveRightStrongWolfeMTAlphaE1ConfirmGradient), then it adds to each error
-// bound the rounding floor of x (concaveRightStrongWolfeMTAlphaE1RoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func concaveRightStrongWolfeMTAlphaE1Settle(x *[1]float64, fx float64, g, e *[1]float64, diffs *concaveRightStrongWolfeMTAlphaE1Differences, budget int) (int, bool) {
-	calls := 0
-	if concaveRightStrongWolfeMTAlphaE1DerivativeCost > 0 {
-		spent, ok := concaveRightStrongWolfeMTAlphaE1ConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// concaveRightStrongWolfeMTAlphaE1Abs returns |v|.
+func concaveRightStrongWolfeMTAlphaE1Abs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	concaveRightStrongWolfeMTAlphaE1RoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // concaveRightStrongWolfeMTAlphaE1RoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -582,6 +536,49 @@ func concaveRightStrongWolfeMTAlphaE1ProbeStep(xi, h float64) (float64, float64)
 // concaveRightStrongWolfeMTAlphaE1SquareRoot returns √v.
 func concaveRightStrongWolfeMTAlphaE1SquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// concaveRightStrongWolfeMTAlphaE1Larger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func concaveRightStrongWolfeMTAlphaE1Larger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// concaveRightStrongWolfeMTAlphaE1GradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func concaveRightStrongWolfeMTAlphaE1GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
+	scale := concaveRightStrongWolfeMTAlphaE1Larger(concaveRightStrongWolfeMTAlphaE1Abs(fx), 1)
+	for i := range g {
+		w := concaveRightStrongWolfeMTAlphaE1Larger(concaveRightStrongWolfeMTAlphaE1Abs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = concaveRightStrongWolfeMTAlphaE1Larger(measure, (concaveRightStrongWolfeMTAlphaE1Abs(g[i])+e[i])*w)
+		floor = concaveRightStrongWolfeMTAlphaE1Larger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// concaveRightStrongWolfeMTAlphaE1StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func concaveRightStrongWolfeMTAlphaE1StepWithin(s, x *[1]float64, tol float64) bool {
+	for i := range s {
+		if !(concaveRightStrongWolfeMTAlphaE1Abs(s[i]) <= tol*(concaveRightStrongWolfeMTAlphaE1Abs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // concaveRightStrongWolfeMTAlphaE1Dot returns aᵀb.

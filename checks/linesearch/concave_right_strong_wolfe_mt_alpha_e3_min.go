@@ -190,11 +190,25 @@ func concaveRightStrongWolfeMTAlphaE3Minimize(x0 [1]float64, lim ConcaveRightStr
 	t, slope := float64(concaveRightStrongWolfeMTAlphaE3StepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                                  // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                                        // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                           // whether g and e at x come from concaveRightStrongWolfeMTAlphaE3ConfirmGradient
+	confirmed := false                                                           // whether g and e at x come from concaveRightStrongWolfeMTAlphaE3ConfirmGradient or settle
 	stalled := false                                                             // whether the run can make no more progress at x
 	retried := -1                                                                // the iteration whose stall was retried with recalibrated differences
+	verify := concaveRightStrongWolfeMTAlphaE3VerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != concaveRightStrongWolfeMTAlphaE3VerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see concaveRightStrongWolfeMTAlphaE3ConfirmGradient and settle).
+			calls, ok := concaveRightStrongWolfeMTAlphaE3Settle(&x, fx, &g, &e, &diffs, verify == concaveRightStrongWolfeMTAlphaE3VerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(ConcaveRightStrongWolfeMTAlphaE3OutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !concaveRightStrongWolfeMTAlphaE3FiniteVec(&g) {
+				return best.ending(ConcaveRightStrongWolfeMTAlphaE3NonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = concaveRightStrongWolfeMTAlphaE3VerifyNothing, true
+		case !confirmed:
 			concaveRightStrongWolfeMTAlphaE3GradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := concaveRightStrongWolfeMTAlphaE3GradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func concaveRightStrongWolfeMTAlphaE3Minimize(x0 [1]float64, lim ConcaveRightStr
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := concaveRightStrongWolfeMTAlphaE3ConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(ConcaveRightStrongWolfeMTAlphaE3OutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !concaveRightStrongWolfeMTAlphaE3FiniteVec(&g) {
-				return best.ending(ConcaveRightStrongWolfeMTAlphaE3NonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = concaveRightStrongWolfeMTAlphaE3VerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func concaveRightStrongWolfeMTAlphaE3Minimize(x0 [1]float64, lim ConcaveRightStr
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if concaveRightStrongWolfeMTAlphaE3StepWithin(&s, &x, lim.Step) {
-				calls, ok := concaveRightStrongWolfeMTAlphaE3Settle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(ConcaveRightStrongWolfeMTAlphaE3OutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !concaveRightStrongWolfeMTAlphaE3FiniteVec(&g) {
-					return best.ending(ConcaveRightStrongWolfeMTAlphaE3NonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = concaveRightStrongWolfeMTAlphaE3VerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func concaveRightStrongWolfeMTAlphaE3Minimize(x0 [1]float64, lim ConcaveRightStr
 			case found.rising:
 				end = ConcaveRightStrongWolfeMTAlphaE3NoDecrease
 			case found.end == concaveRightStrongWolfeMTAlphaE3SearchTiny && canSettle:
-				calls, ok := concaveRightStrongWolfeMTAlphaE3Settle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(ConcaveRightStrongWolfeMTAlphaE3OutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !concaveRightStrongWolfeMTAlphaE3FiniteVec(&g) {
-					return best.ending(ConcaveRightStrongWolfeMTAlphaE3NonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = concaveRightStrongWolfeMTAlphaE3VerifyStall, true
 				continue
 			case found.end == concaveRightStrongWolfeMTAlphaE3SearchTiny:
 				end = ConcaveRightStrongWolfeMTAlphaE3Stalled
@@ -436,51 +424,30 @@ func concaveRightStrongWolfeMTAlphaE3ScaledTrial(t, slope, now float64) float64 
 	return next
 }
 
-// concaveRightStrongWolfeMTAlphaE3GradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func concaveRightStrongWolfeMTAlphaE3GradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *concaveRightStrongWolfeMTAlphaE3Differences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	concaveRightStrongWolfeMTAlphaE3VerifyNothing = iota
+	concaveRightStrongWolfeMTAlphaE3VerifyPass    // a difference gradient passed the test
+	concaveRightStrongWolfeMTAlphaE3VerifyStall   // no step makes progress
+)
 
-// concaveRightStrongWolfeMTAlphaE3GradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func concaveRightStrongWolfeMTAlphaE3GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
-	scale := concaveRightStrongWolfeMTAlphaE3Larger(concaveRightStrongWolfeMTAlphaE3Abs(fx), 1)
-	for i := range g {
-		w := concaveRightStrongWolfeMTAlphaE3Larger(concaveRightStrongWolfeMTAlphaE3Abs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = concaveRightStrongWolfeMTAlphaE3Larger(measure, (concaveRightStrongWolfeMTAlphaE3Abs(g[i])+e[i])*w)
-		floor = concaveRightStrongWolfeMTAlphaE3Larger(floor, e[i]*w)
+// concaveRightStrongWolfeMTAlphaE3Settle prepares a verdict at x: with differences it confirms the
+// gradient (concaveRightStrongWolfeMTAlphaE3ConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (concaveRightStrongWolfeMTAlphaE3RoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func concaveRightStrongWolfeMTAlphaE3Settle(x *[1]float64, fx float64, g, e *[1]float64, diffs *concaveRightStrongWolfeMTAlphaE3Differences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if concaveRightStrongWolfeMTAlphaE3DerivativeCost > 0 {
+		spent, ok := concaveRightStrongWolfeMTAlphaE3ConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// concaveRightStrongWolfeMTAlphaE3Larger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func concaveRightStrongWolfeMTAlphaE3Larger(a, b float64) float64 {
-	if a > b || a != a {
-		return a
+	if stall {
+		concaveRightStrongWolfeMTAlphaE3RoundingFloor(x, g, e, diffs)
 	}
-	return b
-}
-
-// concaveRightStrongWolfeMTAlphaE3Abs returns |v|.
-func concaveRightStrongWolfeMTAlphaE3Abs(v float64) float64 {
-	if v < 0 {
-		return -v
-	}
-	return v
+	return calls, true
 }
 
 // concaveRightStrongWolfeMTAlphaE3ConfirmGradient recomputes a difference gradient at x before the run is
@@ -513,33 +480,20 @@ func concaveRightStrongWolfeMTAlphaE3ConfirmGradient(x *[1]float64, fx float64, 
 	return calls + 2*concaveRightStrongWolfeMTAlphaE3DerivativeCost, true
 }
 
-// concaveRightStrongWolfeMTAlphaE3StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func concaveRightStrongWolfeMTAlphaE3StepWithin(s, x *[1]float64, tol float64) bool {
-	for i := range s {
-		if !(concaveRightStrongWolfeMTAlphaE3Abs(s[i]) <= tol*(concaveRightStrongWolfeMTAlphaE3Abs(x[i])+1)) {
-			return false
-		}
+// concaveRightStrongWolfeMTAlphaE3GradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func concaveRightStrongWolfeMTAlphaE3GradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *concaveRightStrongWolfeMTAlphaE3Differences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// concaveRightStrongWolfeMTAlphaE3Settle prepares the final verdict at a stall: with differences it
-// confirms the gradient (concaveRightStrongWolfeMTAlphaE3ConfirmGradient), then it adds to each error
-// bound the rounding floor of x (concaveRightStrongWolfeMTAlphaE3RoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func concaveRightStrongWolfeMTAlphaE3Settle(x *[1]float64, fx float64, g, e *[1]float64, diffs *concaveRightStrongWolfeMTAlphaE3Differences, budget int) (int, bool) {
-	calls := 0
-	if concaveRightStrongWolfeMTAlphaE3DerivativeCost > 0 {
-		spent, ok := concaveRightStrongWolfeMTAlphaE3ConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// concaveRightStrongWolfeMTAlphaE3Abs returns |v|.
+func concaveRightStrongWolfeMTAlphaE3Abs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	concaveRightStrongWolfeMTAlphaE3RoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // concaveRightStrongWolfeMTAlphaE3RoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -582,6 +536,49 @@ func concaveRightStrongWolfeMTAlphaE3ProbeStep(xi, h float64) (float64, float64)
 // concaveRightStrongWolfeMTAlphaE3SquareRoot returns √v.
 func concaveRightStrongWolfeMTAlphaE3SquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// concaveRightStrongWolfeMTAlphaE3Larger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func concaveRightStrongWolfeMTAlphaE3Larger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// concaveRightStrongWolfeMTAlphaE3GradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func concaveRightStrongWolfeMTAlphaE3GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
+	scale := concaveRightStrongWolfeMTAlphaE3Larger(concaveRightStrongWolfeMTAlphaE3Abs(fx), 1)
+	for i := range g {
+		w := concaveRightStrongWolfeMTAlphaE3Larger(concaveRightStrongWolfeMTAlphaE3Abs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = concaveRightStrongWolfeMTAlphaE3Larger(measure, (concaveRightStrongWolfeMTAlphaE3Abs(g[i])+e[i])*w)
+		floor = concaveRightStrongWolfeMTAlphaE3Larger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// concaveRightStrongWolfeMTAlphaE3StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func concaveRightStrongWolfeMTAlphaE3StepWithin(s, x *[1]float64, tol float64) bool {
+	for i := range s {
+		if !(concaveRightStrongWolfeMTAlphaE3Abs(s[i]) <= tol*(concaveRightStrongWolfeMTAlphaE3Abs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // concaveRightStrongWolfeMTAlphaE3Dot returns aᵀb.

@@ -190,11 +190,25 @@ func concaveRightStrongWolfeNWAlphaE1Minimize(x0 [1]float64, lim ConcaveRightStr
 	t, slope := float64(concaveRightStrongWolfeNWAlphaE1StepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                                  // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                                        // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                           // whether g and e at x come from concaveRightStrongWolfeNWAlphaE1ConfirmGradient
+	confirmed := false                                                           // whether g and e at x come from concaveRightStrongWolfeNWAlphaE1ConfirmGradient or settle
 	stalled := false                                                             // whether the run can make no more progress at x
 	retried := -1                                                                // the iteration whose stall was retried with recalibrated differences
+	verify := concaveRightStrongWolfeNWAlphaE1VerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != concaveRightStrongWolfeNWAlphaE1VerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see concaveRightStrongWolfeNWAlphaE1ConfirmGradient and settle).
+			calls, ok := concaveRightStrongWolfeNWAlphaE1Settle(&x, fx, &g, &e, &diffs, verify == concaveRightStrongWolfeNWAlphaE1VerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(ConcaveRightStrongWolfeNWAlphaE1OutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !concaveRightStrongWolfeNWAlphaE1FiniteVec(&g) {
+				return best.ending(ConcaveRightStrongWolfeNWAlphaE1NonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = concaveRightStrongWolfeNWAlphaE1VerifyNothing, true
+		case !confirmed:
 			concaveRightStrongWolfeNWAlphaE1GradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := concaveRightStrongWolfeNWAlphaE1GradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func concaveRightStrongWolfeNWAlphaE1Minimize(x0 [1]float64, lim ConcaveRightStr
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := concaveRightStrongWolfeNWAlphaE1ConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(ConcaveRightStrongWolfeNWAlphaE1OutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !concaveRightStrongWolfeNWAlphaE1FiniteVec(&g) {
-				return best.ending(ConcaveRightStrongWolfeNWAlphaE1NonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = concaveRightStrongWolfeNWAlphaE1VerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func concaveRightStrongWolfeNWAlphaE1Minimize(x0 [1]float64, lim ConcaveRightStr
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if concaveRightStrongWolfeNWAlphaE1StepWithin(&s, &x, lim.Step) {
-				calls, ok := concaveRightStrongWolfeNWAlphaE1Settle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(ConcaveRightStrongWolfeNWAlphaE1OutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !concaveRightStrongWolfeNWAlphaE1FiniteVec(&g) {
-					return best.ending(ConcaveRightStrongWolfeNWAlphaE1NonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = concaveRightStrongWolfeNWAlphaE1VerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func concaveRightStrongWolfeNWAlphaE1Minimize(x0 [1]float64, lim ConcaveRightStr
 			case found.rising:
 				end = ConcaveRightStrongWolfeNWAlphaE1NoDecrease
 			case found.end == concaveRightStrongWolfeNWAlphaE1SearchTiny && canSettle:
-				calls, ok := concaveRightStrongWolfeNWAlphaE1Settle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(ConcaveRightStrongWolfeNWAlphaE1OutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !concaveRightStrongWolfeNWAlphaE1FiniteVec(&g) {
-					return best.ending(ConcaveRightStrongWolfeNWAlphaE1NonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = concaveRightStrongWolfeNWAlphaE1VerifyStall, true
 				continue
 			case found.end == concaveRightStrongWolfeNWAlphaE1SearchTiny:
 				end = ConcaveRightStrongWolfeNWAlphaE1Stalled
@@ -436,51 +424,30 @@ func concaveRightStrongWolfeNWAlphaE1ScaledTrial(t, slope, now float64) float64 
 	return next
 }
 
-// concaveRightStrongWolfeNWAlphaE1GradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func concaveRightStrongWolfeNWAlphaE1GradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *concaveRightStrongWolfeNWAlphaE1Differences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	concaveRightStrongWolfeNWAlphaE1VerifyNothing = iota
+	concaveRightStrongWolfeNWAlphaE1VerifyPass    // a difference gradient passed the test
+	concaveRightStrongWolfeNWAlphaE1VerifyStall   // no step makes progress
+)
 
-// concaveRightStrongWolfeNWAlphaE1GradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func concaveRightStrongWolfeNWAlphaE1GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
-	scale := concaveRightStrongWolfeNWAlphaE1Larger(concaveRightStrongWolfeNWAlphaE1Abs(fx), 1)
-	for i := range g {
-		w := concaveRightStrongWolfeNWAlphaE1Larger(concaveRightStrongWolfeNWAlphaE1Abs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = concaveRightStrongWolfeNWAlphaE1Larger(measure, (concaveRightStrongWolfeNWAlphaE1Abs(g[i])+e[i])*w)
-		floor = concaveRightStrongWolfeNWAlphaE1Larger(floor, e[i]*w)
+// concaveRightStrongWolfeNWAlphaE1Settle prepares a verdict at x: with differences it confirms the
+// gradient (concaveRightStrongWolfeNWAlphaE1ConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (concaveRightStrongWolfeNWAlphaE1RoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func concaveRightStrongWolfeNWAlphaE1Settle(x *[1]float64, fx float64, g, e *[1]float64, diffs *concaveRightStrongWolfeNWAlphaE1Differences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if concaveRightStrongWolfeNWAlphaE1DerivativeCost > 0 {
+		spent, ok := concaveRightStrongWolfeNWAlphaE1ConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// concaveRightStrongWolfeNWAlphaE1Larger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func concaveRightStrongWolfeNWAlphaE1Larger(a, b float64) float64 {
-	if a > b || a != a {
-		return a
+	if stall {
+		concaveRightStrongWolfeNWAlphaE1RoundingFloor(x, g, e, diffs)
 	}
-	return b
-}
-
-// concaveRightStrongWolfeNWAlphaE1Abs returns |v|.
-func concaveRightStrongWolfeNWAlphaE1Abs(v float64) float64 {
-	if v < 0 {
-		return -v
-	}
-	return v
+	return calls, true
 }
 
 // concaveRightStrongWolfeNWAlphaE1ConfirmGradient recomputes a difference gradient at x before the run is
@@ -513,33 +480,20 @@ func concaveRightStrongWolfeNWAlphaE1ConfirmGradient(x *[1]float64, fx float64, 
 	return calls + 2*concaveRightStrongWolfeNWAlphaE1DerivativeCost, true
 }
 
-// concaveRightStrongWolfeNWAlphaE1StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func concaveRightStrongWolfeNWAlphaE1StepWithin(s, x *[1]float64, tol float64) bool {
-	for i := range s {
-		if !(concaveRightStrongWolfeNWAlphaE1Abs(s[i]) <= tol*(concaveRightStrongWolfeNWAlphaE1Abs(x[i])+1)) {
-			return false
-		}
+// concaveRightStrongWolfeNWAlphaE1GradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func concaveRightStrongWolfeNWAlphaE1GradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *concaveRightStrongWolfeNWAlphaE1Differences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// concaveRightStrongWolfeNWAlphaE1Settle prepares the final verdict at a stall: with differences it
-// confirms the gradient (concaveRightStrongWolfeNWAlphaE1ConfirmGradient), then it adds to each error
-// bound the rounding floor of x (concaveRightStrongWolfeNWAlphaE1RoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func concaveRightStrongWolfeNWAlphaE1Settle(x *[1]float64, fx float64, g, e *[1]float64, diffs *concaveRightStrongWolfeNWAlphaE1Differences, budget int) (int, bool) {
-	calls := 0
-	if concaveRightStrongWolfeNWAlphaE1DerivativeCost > 0 {
-		spent, ok := concaveRightStrongWolfeNWAlphaE1ConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// concaveRightStrongWolfeNWAlphaE1Abs returns |v|.
+func concaveRightStrongWolfeNWAlphaE1Abs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	concaveRightStrongWolfeNWAlphaE1RoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // concaveRightStrongWolfeNWAlphaE1RoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -582,6 +536,49 @@ func concaveRightStrongWolfeNWAlphaE1ProbeStep(xi, h float64) (float64, float64)
 // concaveRightStrongWolfeNWAlphaE1SquareRoot returns √v.
 func concaveRightStrongWolfeNWAlphaE1SquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// concaveRightStrongWolfeNWAlphaE1Larger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func concaveRightStrongWolfeNWAlphaE1Larger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// concaveRightStrongWolfeNWAlphaE1GradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func concaveRightStrongWolfeNWAlphaE1GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
+	scale := concaveRightStrongWolfeNWAlphaE1Larger(concaveRightStrongWolfeNWAlphaE1Abs(fx), 1)
+	for i := range g {
+		w := concaveRightStrongWolfeNWAlphaE1Larger(concaveRightStrongWolfeNWAlphaE1Abs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = concaveRightStrongWolfeNWAlphaE1Larger(measure, (concaveRightStrongWolfeNWAlphaE1Abs(g[i])+e[i])*w)
+		floor = concaveRightStrongWolfeNWAlphaE1Larger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// concaveRightStrongWolfeNWAlphaE1StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func concaveRightStrongWolfeNWAlphaE1StepWithin(s, x *[1]float64, tol float64) bool {
+	for i := range s {
+		if !(concaveRightStrongWolfeNWAlphaE1Abs(s[i]) <= tol*(concaveRightStrongWolfeNWAlphaE1Abs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // concaveRightStrongWolfeNWAlphaE1Dot returns aᵀb.

@@ -190,11 +190,25 @@ func concaveRightStrongWolfeNWAlphaEm3Minimize(x0 [1]float64, lim ConcaveRightSt
 	t, slope := float64(concaveRightStrongWolfeNWAlphaEm3StepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                                   // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                                         // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                            // whether g and e at x come from concaveRightStrongWolfeNWAlphaEm3ConfirmGradient
+	confirmed := false                                                            // whether g and e at x come from concaveRightStrongWolfeNWAlphaEm3ConfirmGradient or settle
 	stalled := false                                                              // whether the run can make no more progress at x
 	retried := -1                                                                 // the iteration whose stall was retried with recalibrated differences
+	verify := concaveRightStrongWolfeNWAlphaEm3VerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != concaveRightStrongWolfeNWAlphaEm3VerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see concaveRightStrongWolfeNWAlphaEm3ConfirmGradient and settle).
+			calls, ok := concaveRightStrongWolfeNWAlphaEm3Settle(&x, fx, &g, &e, &diffs, verify == concaveRightStrongWolfeNWAlphaEm3VerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(ConcaveRightStrongWolfeNWAlphaEm3OutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !concaveRightStrongWolfeNWAlphaEm3FiniteVec(&g) {
+				return best.ending(ConcaveRightStrongWolfeNWAlphaEm3NonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = concaveRightStrongWolfeNWAlphaEm3VerifyNothing, true
+		case !confirmed:
 			concaveRightStrongWolfeNWAlphaEm3GradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := concaveRightStrongWolfeNWAlphaEm3GradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func concaveRightStrongWolfeNWAlphaEm3Minimize(x0 [1]float64, lim ConcaveRightSt
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := concaveRightStrongWolfeNWAlphaEm3ConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(ConcaveRightStrongWolfeNWAlphaEm3OutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !concaveRightStrongWolfeNWAlphaEm3FiniteVec(&g) {
-				return best.ending(ConcaveRightStrongWolfeNWAlphaEm3NonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = concaveRightStrongWolfeNWAlphaEm3VerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func concaveRightStrongWolfeNWAlphaEm3Minimize(x0 [1]float64, lim ConcaveRightSt
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if concaveRightStrongWolfeNWAlphaEm3StepWithin(&s, &x, lim.Step) {
-				calls, ok := concaveRightStrongWolfeNWAlphaEm3Settle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(ConcaveRightStrongWolfeNWAlphaEm3OutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !concaveRightStrongWolfeNWAlphaEm3FiniteVec(&g) {
-					return best.ending(ConcaveRightStrongWolfeNWAlphaEm3NonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = concaveRightStrongWolfeNWAlphaEm3VerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func concaveRightStrongWolfeNWAlphaEm3Minimize(x0 [1]float64, lim ConcaveRightSt
 			case found.rising:
 				end = ConcaveRightStrongWolfeNWAlphaEm3NoDecrease
 			case found.end == concaveRightStrongWolfeNWAlphaEm3SearchTiny && canSettle:
-				calls, ok := concaveRightStrongWolfeNWAlphaEm3Settle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(ConcaveRightStrongWolfeNWAlphaEm3OutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !concaveRightStrongWolfeNWAlphaEm3FiniteVec(&g) {
-					return best.ending(ConcaveRightStrongWolfeNWAlphaEm3NonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = concaveRightStrongWolfeNWAlphaEm3VerifyStall, true
 				continue
 			case found.end == concaveRightStrongWolfeNWAlphaEm3SearchTiny:
 				end = ConcaveRightStrongWolfeNWAlphaEm3Stalled
@@ -436,51 +424,30 @@ func concaveRightStrongWolfeNWAlphaEm3ScaledTrial(t, slope, now float64) float64
 	return next
 }
 
-// concaveRightStrongWolfeNWAlphaEm3GradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func concaveRightStrongWolfeNWAlphaEm3GradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *concaveRightStrongWolfeNWAlphaEm3Differences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	concaveRightStrongWolfeNWAlphaEm3VerifyNothing = iota
+	concaveRightStrongWolfeNWAlphaEm3VerifyPass    // a difference gradient passed the test
+	concaveRightStrongWolfeNWAlphaEm3VerifyStall   // no step makes progress
+)
 
-// concaveRightStrongWolfeNWAlphaEm3GradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func concaveRightStrongWolfeNWAlphaEm3GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
-	scale := concaveRightStrongWolfeNWAlphaEm3Larger(concaveRightStrongWolfeNWAlphaEm3Abs(fx), 1)
-	for i := range g {
-		w := concaveRightStrongWolfeNWAlphaEm3Larger(concaveRightStrongWolfeNWAlphaEm3Abs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = concaveRightStrongWolfeNWAlphaEm3Larger(measure, (concaveRightStrongWolfeNWAlphaEm3Abs(g[i])+e[i])*w)
-		floor = concaveRightStrongWolfeNWAlphaEm3Larger(floor, e[i]*w)
+// concaveRightStrongWolfeNWAlphaEm3Settle prepares a verdict at x: with differences it confirms the
+// gradient (concaveRightStrongWolfeNWAlphaEm3ConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (concaveRightStrongWolfeNWAlphaEm3RoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func concaveRightStrongWolfeNWAlphaEm3Settle(x *[1]float64, fx float64, g, e *[1]float64, diffs *concaveRightStrongWolfeNWAlphaEm3Differences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if concaveRightStrongWolfeNWAlphaEm3DerivativeCost > 0 {
+		spent, ok := concaveRightStrongWolfeNWAlphaEm3ConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// concaveRightStrongWolfeNWAlphaEm3Larger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func concaveRightStrongWolfeNWAlphaEm3Larger(a, b float64) float64 {
-	if a > b || a != a {
-		return a
+	if stall {
+		concaveRightStrongWolfeNWAlphaEm3RoundingFloor(x, g, e, diffs)
 	}
-	return b
-}
-
-// concaveRightStrongWolfeNWAlphaEm3Abs returns |v|.
-func concaveRightStrongWolfeNWAlphaEm3Abs(v float64) float64 {
-	if v < 0 {
-		return -v
-	}
-	return v
+	return calls, true
 }
 
 // concaveRightStrongWolfeNWAlphaEm3ConfirmGradient recomputes a difference gradient at x before the run is
@@ -513,33 +480,20 @@ func concaveRightStrongWolfeNWAlphaEm3ConfirmGradient(x *[1]float64, fx float64,
 	return calls + 2*concaveRightStrongWolfeNWAlphaEm3DerivativeCost, true
 }
 
-// concaveRightStrongWolfeNWAlphaEm3StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func concaveRightStrongWolfeNWAlphaEm3StepWithin(s, x *[1]float64, tol float64) bool {
-	for i := range s {
-		if !(concaveRightStrongWolfeNWAlphaEm3Abs(s[i]) <= tol*(concaveRightStrongWolfeNWAlphaEm3Abs(x[i])+1)) {
-			return false
-		}
+// concaveRightStrongWolfeNWAlphaEm3GradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func concaveRightStrongWolfeNWAlphaEm3GradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *concaveRightStrongWolfeNWAlphaEm3Differences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// concaveRightStrongWolfeNWAlphaEm3Settle prepares the final verdict at a stall: with differences it
-// confirms the gradient (concaveRightStrongWolfeNWAlphaEm3ConfirmGradient), then it adds to each error
-// bound the rounding floor of x (concaveRightStrongWolfeNWAlphaEm3RoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func concaveRightStrongWolfeNWAlphaEm3Settle(x *[1]float64, fx float64, g, e *[1]float64, diffs *concaveRightStrongWolfeNWAlphaEm3Differences, budget int) (int, bool) {
-	calls := 0
-	if concaveRightStrongWolfeNWAlphaEm3DerivativeCost > 0 {
-		spent, ok := concaveRightStrongWolfeNWAlphaEm3ConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// concaveRightStrongWolfeNWAlphaEm3Abs returns |v|.
+func concaveRightStrongWolfeNWAlphaEm3Abs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	concaveRightStrongWolfeNWAlphaEm3RoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // concaveRightStrongWolfeNWAlphaEm3RoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -582,6 +536,49 @@ func concaveRightStrongWolfeNWAlphaEm3ProbeStep(xi, h float64) (float64, float64
 // concaveRightStrongWolfeNWAlphaEm3SquareRoot returns √v.
 func concaveRightStrongWolfeNWAlphaEm3SquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// concaveRightStrongWolfeNWAlphaEm3Larger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func concaveRightStrongWolfeNWAlphaEm3Larger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// concaveRightStrongWolfeNWAlphaEm3GradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func concaveRightStrongWolfeNWAlphaEm3GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
+	scale := concaveRightStrongWolfeNWAlphaEm3Larger(concaveRightStrongWolfeNWAlphaEm3Abs(fx), 1)
+	for i := range g {
+		w := concaveRightStrongWolfeNWAlphaEm3Larger(concaveRightStrongWolfeNWAlphaEm3Abs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = concaveRightStrongWolfeNWAlphaEm3Larger(measure, (concaveRightStrongWolfeNWAlphaEm3Abs(g[i])+e[i])*w)
+		floor = concaveRightStrongWolfeNWAlphaEm3Larger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// concaveRightStrongWolfeNWAlphaEm3StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func concaveRightStrongWolfeNWAlphaEm3StepWithin(s, x *[1]float64, tol float64) bool {
+	for i := range s {
+		if !(concaveRightStrongWolfeNWAlphaEm3Abs(s[i]) <= tol*(concaveRightStrongWolfeNWAlphaEm3Abs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // concaveRightStrongWolfeNWAlphaEm3Dot returns aᵀb.

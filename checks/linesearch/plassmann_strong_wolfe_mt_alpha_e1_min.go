@@ -190,11 +190,25 @@ func plassmannStrongWolfeMTAlphaE1Minimize(x0 [1]float64, lim PlassmannStrongWol
 	t, slope := float64(plassmannStrongWolfeMTAlphaE1StepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                               // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                                     // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                        // whether g and e at x come from plassmannStrongWolfeMTAlphaE1ConfirmGradient
+	confirmed := false                                                        // whether g and e at x come from plassmannStrongWolfeMTAlphaE1ConfirmGradient or settle
 	stalled := false                                                          // whether the run can make no more progress at x
 	retried := -1                                                             // the iteration whose stall was retried with recalibrated differences
+	verify := plassmannStrongWolfeMTAlphaE1VerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != plassmannStrongWolfeMTAlphaE1VerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see plassmannStrongWolfeMTAlphaE1ConfirmGradient and settle).
+			calls, ok := plassmannStrongWolfeMTAlphaE1Settle(&x, fx, &g, &e, &diffs, verify == plassmannStrongWolfeMTAlphaE1VerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(PlassmannStrongWolfeMTAlphaE1OutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !plassmannStrongWolfeMTAlphaE1FiniteVec(&g) {
+				return best.ending(PlassmannStrongWolfeMTAlphaE1NonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = plassmannStrongWolfeMTAlphaE1VerifyNothing, true
+		case !confirmed:
 			plassmannStrongWolfeMTAlphaE1GradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := plassmannStrongWolfeMTAlphaE1GradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func plassmannStrongWolfeMTAlphaE1Minimize(x0 [1]float64, lim PlassmannStrongWol
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := plassmannStrongWolfeMTAlphaE1ConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(PlassmannStrongWolfeMTAlphaE1OutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !plassmannStrongWolfeMTAlphaE1FiniteVec(&g) {
-				return best.ending(PlassmannStrongWolfeMTAlphaE1NonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = plassmannStrongWolfeMTAlphaE1VerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func plassmannStrongWolfeMTAlphaE1Minimize(x0 [1]float64, lim PlassmannStrongWol
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if plassmannStrongWolfeMTAlphaE1StepWithin(&s, &x, lim.Step) {
-				calls, ok := plassmannStrongWolfeMTAlphaE1Settle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PlassmannStrongWolfeMTAlphaE1OutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !plassmannStrongWolfeMTAlphaE1FiniteVec(&g) {
-					return best.ending(PlassmannStrongWolfeMTAlphaE1NonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = plassmannStrongWolfeMTAlphaE1VerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func plassmannStrongWolfeMTAlphaE1Minimize(x0 [1]float64, lim PlassmannStrongWol
 			case found.rising:
 				end = PlassmannStrongWolfeMTAlphaE1NoDecrease
 			case found.end == plassmannStrongWolfeMTAlphaE1SearchTiny && canSettle:
-				calls, ok := plassmannStrongWolfeMTAlphaE1Settle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PlassmannStrongWolfeMTAlphaE1OutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !plassmannStrongWolfeMTAlphaE1FiniteVec(&g) {
-					return best.ending(PlassmannStrongWolfeMTAlphaE1NonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = plassmannStrongWolfeMTAlphaE1VerifyStall, true
 				continue
 			case found.end == plassmannStrongWolfeMTAlphaE1SearchTiny:
 				end = PlassmannStrongWolfeMTAlphaE1Stalled
@@ -436,51 +424,30 @@ func plassmannStrongWolfeMTAlphaE1ScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
-// plassmannStrongWolfeMTAlphaE1GradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func plassmannStrongWolfeMTAlphaE1GradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *plassmannStrongWolfeMTAlphaE1Differences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	plassmannStrongWolfeMTAlphaE1VerifyNothing = iota
+	plassmannStrongWolfeMTAlphaE1VerifyPass    // a difference gradient passed the test
+	plassmannStrongWolfeMTAlphaE1VerifyStall   // no step makes progress
+)
 
-// plassmannStrongWolfeMTAlphaE1GradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func plassmannStrongWolfeMTAlphaE1GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
-	scale := plassmannStrongWolfeMTAlphaE1Larger(plassmannStrongWolfeMTAlphaE1Abs(fx), 1)
-	for i := range g {
-		w := plassmannStrongWolfeMTAlphaE1Larger(plassmannStrongWolfeMTAlphaE1Abs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = plassmannStrongWolfeMTAlphaE1Larger(measure, (plassmannStrongWolfeMTAlphaE1Abs(g[i])+e[i])*w)
-		floor = plassmannStrongWolfeMTAlphaE1Larger(floor, e[i]*w)
+// plassmannStrongWolfeMTAlphaE1Settle prepares a verdict at x: with differences it confirms the
+// gradient (plassmannStrongWolfeMTAlphaE1ConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (plassmannStrongWolfeMTAlphaE1RoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func plassmannStrongWolfeMTAlphaE1Settle(x *[1]float64, fx float64, g, e *[1]float64, diffs *plassmannStrongWolfeMTAlphaE1Differences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if plassmannStrongWolfeMTAlphaE1DerivativeCost > 0 {
+		spent, ok := plassmannStrongWolfeMTAlphaE1ConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// plassmannStrongWolfeMTAlphaE1Larger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func plassmannStrongWolfeMTAlphaE1Larger(a, b float64) float64 {
-	if a > b || a != a {
-		return a
+	if stall {
+		plassmannStrongWolfeMTAlphaE1RoundingFloor(x, g, e, diffs)
 	}
-	return b
-}
-
-// plassmannStrongWolfeMTAlphaE1Abs returns |v|.
-func plassmannStrongWolfeMTAlphaE1Abs(v float64) float64 {
-	if v < 0 {
-		return -v
-	}
-	return v
+	return calls, true
 }
 
 // plassmannStrongWolfeMTAlphaE1ConfirmGradient recomputes a difference gradient at x before the run is
@@ -513,33 +480,20 @@ func plassmannStrongWolfeMTAlphaE1ConfirmGradient(x *[1]float64, fx float64, g, 
 	return calls + 2*plassmannStrongWolfeMTAlphaE1DerivativeCost, true
 }
 
-// plassmannStrongWolfeMTAlphaE1StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func plassmannStrongWolfeMTAlphaE1StepWithin(s, x *[1]float64, tol float64) bool {
-	for i := range s {
-		if !(plassmannStrongWolfeMTAlphaE1Abs(s[i]) <= tol*(plassmannStrongWolfeMTAlphaE1Abs(x[i])+1)) {
-			return false
-		}
+// plassmannStrongWolfeMTAlphaE1GradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func plassmannStrongWolfeMTAlphaE1GradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *plassmannStrongWolfeMTAlphaE1Differences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// plassmannStrongWolfeMTAlphaE1Settle prepares the final verdict at a stall: with differences it
-// confirms the gradient (plassmannStrongWolfeMTAlphaE1ConfirmGradient), then it adds to each error
-// bound the rounding floor of x (plassmannStrongWolfeMTAlphaE1RoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func plassmannStrongWolfeMTAlphaE1Settle(x *[1]float64, fx float64, g, e *[1]float64, diffs *plassmannStrongWolfeMTAlphaE1Differences, budget int) (int, bool) {
-	calls := 0
-	if plassmannStrongWolfeMTAlphaE1DerivativeCost > 0 {
-		spent, ok := plassmannStrongWolfeMTAlphaE1ConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// plassmannStrongWolfeMTAlphaE1Abs returns |v|.
+func plassmannStrongWolfeMTAlphaE1Abs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	plassmannStrongWolfeMTAlphaE1RoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // plassmannStrongWolfeMTAlphaE1RoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -582,6 +536,49 @@ func plassmannStrongWolfeMTAlphaE1ProbeStep(xi, h float64) (float64, float64) {
 // plassmannStrongWolfeMTAlphaE1SquareRoot returns √v.
 func plassmannStrongWolfeMTAlphaE1SquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// plassmannStrongWolfeMTAlphaE1Larger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func plassmannStrongWolfeMTAlphaE1Larger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// plassmannStrongWolfeMTAlphaE1GradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func plassmannStrongWolfeMTAlphaE1GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
+	scale := plassmannStrongWolfeMTAlphaE1Larger(plassmannStrongWolfeMTAlphaE1Abs(fx), 1)
+	for i := range g {
+		w := plassmannStrongWolfeMTAlphaE1Larger(plassmannStrongWolfeMTAlphaE1Abs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = plassmannStrongWolfeMTAlphaE1Larger(measure, (plassmannStrongWolfeMTAlphaE1Abs(g[i])+e[i])*w)
+		floor = plassmannStrongWolfeMTAlphaE1Larger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// plassmannStrongWolfeMTAlphaE1StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func plassmannStrongWolfeMTAlphaE1StepWithin(s, x *[1]float64, tol float64) bool {
+	for i := range s {
+		if !(plassmannStrongWolfeMTAlphaE1Abs(s[i]) <= tol*(plassmannStrongWolfeMTAlphaE1Abs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // plassmannStrongWolfeMTAlphaE1Dot returns aᵀb.

@@ -190,11 +190,25 @@ func plassmannStrongWolfeMTAlphaEm1Minimize(x0 [1]float64, lim PlassmannStrongWo
 	t, slope := float64(plassmannStrongWolfeMTAlphaEm1StepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                                // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                                      // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                         // whether g and e at x come from plassmannStrongWolfeMTAlphaEm1ConfirmGradient
+	confirmed := false                                                         // whether g and e at x come from plassmannStrongWolfeMTAlphaEm1ConfirmGradient or settle
 	stalled := false                                                           // whether the run can make no more progress at x
 	retried := -1                                                              // the iteration whose stall was retried with recalibrated differences
+	verify := plassmannStrongWolfeMTAlphaEm1VerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != plassmannStrongWolfeMTAlphaEm1VerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see plassmannStrongWolfeMTAlphaEm1ConfirmGradient and settle).
+			calls, ok := plassmannStrongWolfeMTAlphaEm1Settle(&x, fx, &g, &e, &diffs, verify == plassmannStrongWolfeMTAlphaEm1VerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(PlassmannStrongWolfeMTAlphaEm1OutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !plassmannStrongWolfeMTAlphaEm1FiniteVec(&g) {
+				return best.ending(PlassmannStrongWolfeMTAlphaEm1NonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = plassmannStrongWolfeMTAlphaEm1VerifyNothing, true
+		case !confirmed:
 			plassmannStrongWolfeMTAlphaEm1GradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := plassmannStrongWolfeMTAlphaEm1GradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func plassmannStrongWolfeMTAlphaEm1Minimize(x0 [1]float64, lim PlassmannStrongWo
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := plassmannStrongWolfeMTAlphaEm1ConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(PlassmannStrongWolfeMTAlphaEm1OutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !plassmannStrongWolfeMTAlphaEm1FiniteVec(&g) {
-				return best.ending(PlassmannStrongWolfeMTAlphaEm1NonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = plassmannStrongWolfeMTAlphaEm1VerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func plassmannStrongWolfeMTAlphaEm1Minimize(x0 [1]float64, lim PlassmannStrongWo
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if plassmannStrongWolfeMTAlphaEm1StepWithin(&s, &x, lim.Step) {
-				calls, ok := plassmannStrongWolfeMTAlphaEm1Settle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PlassmannStrongWolfeMTAlphaEm1OutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !plassmannStrongWolfeMTAlphaEm1FiniteVec(&g) {
-					return best.ending(PlassmannStrongWolfeMTAlphaEm1NonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = plassmannStrongWolfeMTAlphaEm1VerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func plassmannStrongWolfeMTAlphaEm1Minimize(x0 [1]float64, lim PlassmannStrongWo
 			case found.rising:
 				end = PlassmannStrongWolfeMTAlphaEm1NoDecrease
 			case found.end == plassmannStrongWolfeMTAlphaEm1SearchTiny && canSettle:
-				calls, ok := plassmannStrongWolfeMTAlphaEm1Settle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PlassmannStrongWolfeMTAlphaEm1OutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !plassmannStrongWolfeMTAlphaEm1FiniteVec(&g) {
-					return best.ending(PlassmannStrongWolfeMTAlphaEm1NonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = plassmannStrongWolfeMTAlphaEm1VerifyStall, true
 				continue
 			case found.end == plassmannStrongWolfeMTAlphaEm1SearchTiny:
 				end = PlassmannStrongWolfeMTAlphaEm1Stalled
@@ -436,51 +424,30 @@ func plassmannStrongWolfeMTAlphaEm1ScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
-// plassmannStrongWolfeMTAlphaEm1GradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func plassmannStrongWolfeMTAlphaEm1GradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *plassmannStrongWolfeMTAlphaEm1Differences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	plassmannStrongWolfeMTAlphaEm1VerifyNothing = iota
+	plassmannStrongWolfeMTAlphaEm1VerifyPass    // a difference gradient passed the test
+	plassmannStrongWolfeMTAlphaEm1VerifyStall   // no step makes progress
+)
 
-// plassmannStrongWolfeMTAlphaEm1GradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func plassmannStrongWolfeMTAlphaEm1GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
-	scale := plassmannStrongWolfeMTAlphaEm1Larger(plassmannStrongWolfeMTAlphaEm1Abs(fx), 1)
-	for i := range g {
-		w := plassmannStrongWolfeMTAlphaEm1Larger(plassmannStrongWolfeMTAlphaEm1Abs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = plassmannStrongWolfeMTAlphaEm1Larger(measure, (plassmannStrongWolfeMTAlphaEm1Abs(g[i])+e[i])*w)
-		floor = plassmannStrongWolfeMTAlphaEm1Larger(floor, e[i]*w)
+// plassmannStrongWolfeMTAlphaEm1Settle prepares a verdict at x: with differences it confirms the
+// gradient (plassmannStrongWolfeMTAlphaEm1ConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (plassmannStrongWolfeMTAlphaEm1RoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func plassmannStrongWolfeMTAlphaEm1Settle(x *[1]float64, fx float64, g, e *[1]float64, diffs *plassmannStrongWolfeMTAlphaEm1Differences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if plassmannStrongWolfeMTAlphaEm1DerivativeCost > 0 {
+		spent, ok := plassmannStrongWolfeMTAlphaEm1ConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// plassmannStrongWolfeMTAlphaEm1Larger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func plassmannStrongWolfeMTAlphaEm1Larger(a, b float64) float64 {
-	if a > b || a != a {
-		return a
+	if stall {
+		plassmannStrongWolfeMTAlphaEm1RoundingFloor(x, g, e, diffs)
 	}
-	return b
-}
-
-// plassmannStrongWolfeMTAlphaEm1Abs returns |v|.
-func plassmannStrongWolfeMTAlphaEm1Abs(v float64) float64 {
-	if v < 0 {
-		return -v
-	}
-	return v
+	return calls, true
 }
 
 // plassmannStrongWolfeMTAlphaEm1ConfirmGradient recomputes a difference gradient at x before the run is
@@ -513,33 +480,20 @@ func plassmannStrongWolfeMTAlphaEm1ConfirmGradient(x *[1]float64, fx float64, g,
 	return calls + 2*plassmannStrongWolfeMTAlphaEm1DerivativeCost, true
 }
 
-// plassmannStrongWolfeMTAlphaEm1StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func plassmannStrongWolfeMTAlphaEm1StepWithin(s, x *[1]float64, tol float64) bool {
-	for i := range s {
-		if !(plassmannStrongWolfeMTAlphaEm1Abs(s[i]) <= tol*(plassmannStrongWolfeMTAlphaEm1Abs(x[i])+1)) {
-			return false
-		}
+// plassmannStrongWolfeMTAlphaEm1GradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func plassmannStrongWolfeMTAlphaEm1GradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *plassmannStrongWolfeMTAlphaEm1Differences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// plassmannStrongWolfeMTAlphaEm1Settle prepares the final verdict at a stall: with differences it
-// confirms the gradient (plassmannStrongWolfeMTAlphaEm1ConfirmGradient), then it adds to each error
-// bound the rounding floor of x (plassmannStrongWolfeMTAlphaEm1RoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func plassmannStrongWolfeMTAlphaEm1Settle(x *[1]float64, fx float64, g, e *[1]float64, diffs *plassmannStrongWolfeMTAlphaEm1Differences, budget int) (int, bool) {
-	calls := 0
-	if plassmannStrongWolfeMTAlphaEm1DerivativeCost > 0 {
-		spent, ok := plassmannStrongWolfeMTAlphaEm1ConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// plassmannStrongWolfeMTAlphaEm1Abs returns |v|.
+func plassmannStrongWolfeMTAlphaEm1Abs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	plassmannStrongWolfeMTAlphaEm1RoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // plassmannStrongWolfeMTAlphaEm1RoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -582,6 +536,49 @@ func plassmannStrongWolfeMTAlphaEm1ProbeStep(xi, h float64) (float64, float64) {
 // plassmannStrongWolfeMTAlphaEm1SquareRoot returns √v.
 func plassmannStrongWolfeMTAlphaEm1SquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// plassmannStrongWolfeMTAlphaEm1Larger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func plassmannStrongWolfeMTAlphaEm1Larger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// plassmannStrongWolfeMTAlphaEm1GradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func plassmannStrongWolfeMTAlphaEm1GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
+	scale := plassmannStrongWolfeMTAlphaEm1Larger(plassmannStrongWolfeMTAlphaEm1Abs(fx), 1)
+	for i := range g {
+		w := plassmannStrongWolfeMTAlphaEm1Larger(plassmannStrongWolfeMTAlphaEm1Abs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = plassmannStrongWolfeMTAlphaEm1Larger(measure, (plassmannStrongWolfeMTAlphaEm1Abs(g[i])+e[i])*w)
+		floor = plassmannStrongWolfeMTAlphaEm1Larger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// plassmannStrongWolfeMTAlphaEm1StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func plassmannStrongWolfeMTAlphaEm1StepWithin(s, x *[1]float64, tol float64) bool {
+	for i := range s {
+		if !(plassmannStrongWolfeMTAlphaEm1Abs(s[i]) <= tol*(plassmannStrongWolfeMTAlphaEm1Abs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // plassmannStrongWolfeMTAlphaEm1Dot returns aᵀb.

@@ -190,11 +190,25 @@ func plassmannStrongWolfeNWAlphaE1Minimize(x0 [1]float64, lim PlassmannStrongWol
 	t, slope := float64(plassmannStrongWolfeNWAlphaE1StepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                               // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                                     // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                        // whether g and e at x come from plassmannStrongWolfeNWAlphaE1ConfirmGradient
+	confirmed := false                                                        // whether g and e at x come from plassmannStrongWolfeNWAlphaE1ConfirmGradient or settle
 	stalled := false                                                          // whether the run can make no more progress at x
 	retried := -1                                                             // the iteration whose stall was retried with recalibrated differences
+	verify := plassmannStrongWolfeNWAlphaE1VerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != plassmannStrongWolfeNWAlphaE1VerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see plassmannStrongWolfeNWAlphaE1ConfirmGradient and settle).
+			calls, ok := plassmannStrongWolfeNWAlphaE1Settle(&x, fx, &g, &e, &diffs, verify == plassmannStrongWolfeNWAlphaE1VerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(PlassmannStrongWolfeNWAlphaE1OutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !plassmannStrongWolfeNWAlphaE1FiniteVec(&g) {
+				return best.ending(PlassmannStrongWolfeNWAlphaE1NonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = plassmannStrongWolfeNWAlphaE1VerifyNothing, true
+		case !confirmed:
 			plassmannStrongWolfeNWAlphaE1GradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := plassmannStrongWolfeNWAlphaE1GradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func plassmannStrongWolfeNWAlphaE1Minimize(x0 [1]float64, lim PlassmannStrongWol
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := plassmannStrongWolfeNWAlphaE1ConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(PlassmannStrongWolfeNWAlphaE1OutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !plassmannStrongWolfeNWAlphaE1FiniteVec(&g) {
-				return best.ending(PlassmannStrongWolfeNWAlphaE1NonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = plassmannStrongWolfeNWAlphaE1VerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func plassmannStrongWolfeNWAlphaE1Minimize(x0 [1]float64, lim PlassmannStrongWol
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if plassmannStrongWolfeNWAlphaE1StepWithin(&s, &x, lim.Step) {
-				calls, ok := plassmannStrongWolfeNWAlphaE1Settle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PlassmannStrongWolfeNWAlphaE1OutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !plassmannStrongWolfeNWAlphaE1FiniteVec(&g) {
-					return best.ending(PlassmannStrongWolfeNWAlphaE1NonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = plassmannStrongWolfeNWAlphaE1VerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func plassmannStrongWolfeNWAlphaE1Minimize(x0 [1]float64, lim PlassmannStrongWol
 			case found.rising:
 				end = PlassmannStrongWolfeNWAlphaE1NoDecrease
 			case found.end == plassmannStrongWolfeNWAlphaE1SearchTiny && canSettle:
-				calls, ok := plassmannStrongWolfeNWAlphaE1Settle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PlassmannStrongWolfeNWAlphaE1OutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !plassmannStrongWolfeNWAlphaE1FiniteVec(&g) {
-					return best.ending(PlassmannStrongWolfeNWAlphaE1NonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = plassmannStrongWolfeNWAlphaE1VerifyStall, true
 				continue
 			case found.end == plassmannStrongWolfeNWAlphaE1SearchTiny:
 				end = PlassmannStrongWolfeNWAlphaE1Stalled
@@ -436,51 +424,30 @@ func plassmannStrongWolfeNWAlphaE1ScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
-// plassmannStrongWolfeNWAlphaE1GradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func plassmannStrongWolfeNWAlphaE1GradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *plassmannStrongWolfeNWAlphaE1Differences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	plassmannStrongWolfeNWAlphaE1VerifyNothing = iota
+	plassmannStrongWolfeNWAlphaE1VerifyPass    // a difference gradient passed the test
+	plassmannStrongWolfeNWAlphaE1VerifyStall   // no step makes progress
+)
 
-// plassmannStrongWolfeNWAlphaE1GradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func plassmannStrongWolfeNWAlphaE1GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
-	scale := plassmannStrongWolfeNWAlphaE1Larger(plassmannStrongWolfeNWAlphaE1Abs(fx), 1)
-	for i := range g {
-		w := plassmannStrongWolfeNWAlphaE1Larger(plassmannStrongWolfeNWAlphaE1Abs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = plassmannStrongWolfeNWAlphaE1Larger(measure, (plassmannStrongWolfeNWAlphaE1Abs(g[i])+e[i])*w)
-		floor = plassmannStrongWolfeNWAlphaE1Larger(floor, e[i]*w)
+// plassmannStrongWolfeNWAlphaE1Settle prepares a verdict at x: with differences it confirms the
+// gradient (plassmannStrongWolfeNWAlphaE1ConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (plassmannStrongWolfeNWAlphaE1RoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func plassmannStrongWolfeNWAlphaE1Settle(x *[1]float64, fx float64, g, e *[1]float64, diffs *plassmannStrongWolfeNWAlphaE1Differences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if plassmannStrongWolfeNWAlphaE1DerivativeCost > 0 {
+		spent, ok := plassmannStrongWolfeNWAlphaE1ConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// plassmannStrongWolfeNWAlphaE1Larger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func plassmannStrongWolfeNWAlphaE1Larger(a, b float64) float64 {
-	if a > b || a != a {
-		return a
+	if stall {
+		plassmannStrongWolfeNWAlphaE1RoundingFloor(x, g, e, diffs)
 	}
-	return b
-}
-
-// plassmannStrongWolfeNWAlphaE1Abs returns |v|.
-func plassmannStrongWolfeNWAlphaE1Abs(v float64) float64 {
-	if v < 0 {
-		return -v
-	}
-	return v
+	return calls, true
 }
 
 // plassmannStrongWolfeNWAlphaE1ConfirmGradient recomputes a difference gradient at x before the run is
@@ -513,33 +480,20 @@ func plassmannStrongWolfeNWAlphaE1ConfirmGradient(x *[1]float64, fx float64, g, 
 	return calls + 2*plassmannStrongWolfeNWAlphaE1DerivativeCost, true
 }
 
-// plassmannStrongWolfeNWAlphaE1StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func plassmannStrongWolfeNWAlphaE1StepWithin(s, x *[1]float64, tol float64) bool {
-	for i := range s {
-		if !(plassmannStrongWolfeNWAlphaE1Abs(s[i]) <= tol*(plassmannStrongWolfeNWAlphaE1Abs(x[i])+1)) {
-			return false
-		}
+// plassmannStrongWolfeNWAlphaE1GradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func plassmannStrongWolfeNWAlphaE1GradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *plassmannStrongWolfeNWAlphaE1Differences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// plassmannStrongWolfeNWAlphaE1Settle prepares the final verdict at a stall: with differences it
-// confirms the gradient (plassmannStrongWolfeNWAlphaE1ConfirmGradient), then it adds to each error
-// bound the rounding floor of x (plassmannStrongWolfeNWAlphaE1RoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func plassmannStrongWolfeNWAlphaE1Settle(x *[1]float64, fx float64, g, e *[1]float64, diffs *plassmannStrongWolfeNWAlphaE1Differences, budget int) (int, bool) {
-	calls := 0
-	if plassmannStrongWolfeNWAlphaE1DerivativeCost > 0 {
-		spent, ok := plassmannStrongWolfeNWAlphaE1ConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// plassmannStrongWolfeNWAlphaE1Abs returns |v|.
+func plassmannStrongWolfeNWAlphaE1Abs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	plassmannStrongWolfeNWAlphaE1RoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // plassmannStrongWolfeNWAlphaE1RoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -582,6 +536,49 @@ func plassmannStrongWolfeNWAlphaE1ProbeStep(xi, h float64) (float64, float64) {
 // plassmannStrongWolfeNWAlphaE1SquareRoot returns √v.
 func plassmannStrongWolfeNWAlphaE1SquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// plassmannStrongWolfeNWAlphaE1Larger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func plassmannStrongWolfeNWAlphaE1Larger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// plassmannStrongWolfeNWAlphaE1GradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func plassmannStrongWolfeNWAlphaE1GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
+	scale := plassmannStrongWolfeNWAlphaE1Larger(plassmannStrongWolfeNWAlphaE1Abs(fx), 1)
+	for i := range g {
+		w := plassmannStrongWolfeNWAlphaE1Larger(plassmannStrongWolfeNWAlphaE1Abs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = plassmannStrongWolfeNWAlphaE1Larger(measure, (plassmannStrongWolfeNWAlphaE1Abs(g[i])+e[i])*w)
+		floor = plassmannStrongWolfeNWAlphaE1Larger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// plassmannStrongWolfeNWAlphaE1StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func plassmannStrongWolfeNWAlphaE1StepWithin(s, x *[1]float64, tol float64) bool {
+	for i := range s {
+		if !(plassmannStrongWolfeNWAlphaE1Abs(s[i]) <= tol*(plassmannStrongWolfeNWAlphaE1Abs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // plassmannStrongWolfeNWAlphaE1Dot returns aᵀb.

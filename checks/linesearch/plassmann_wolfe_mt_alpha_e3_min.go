@@ -190,11 +190,25 @@ func plassmannWolfeMTAlphaE3Minimize(x0 [1]float64, lim PlassmannWolfeMTAlphaE3L
 	t, slope := float64(plassmannWolfeMTAlphaE3StepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                         // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                               // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                  // whether g and e at x come from plassmannWolfeMTAlphaE3ConfirmGradient
+	confirmed := false                                                  // whether g and e at x come from plassmannWolfeMTAlphaE3ConfirmGradient or settle
 	stalled := false                                                    // whether the run can make no more progress at x
 	retried := -1                                                       // the iteration whose stall was retried with recalibrated differences
+	verify := plassmannWolfeMTAlphaE3VerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != plassmannWolfeMTAlphaE3VerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see plassmannWolfeMTAlphaE3ConfirmGradient and settle).
+			calls, ok := plassmannWolfeMTAlphaE3Settle(&x, fx, &g, &e, &diffs, verify == plassmannWolfeMTAlphaE3VerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(PlassmannWolfeMTAlphaE3OutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !plassmannWolfeMTAlphaE3FiniteVec(&g) {
+				return best.ending(PlassmannWolfeMTAlphaE3NonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = plassmannWolfeMTAlphaE3VerifyNothing, true
+		case !confirmed:
 			plassmannWolfeMTAlphaE3GradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := plassmannWolfeMTAlphaE3GradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func plassmannWolfeMTAlphaE3Minimize(x0 [1]float64, lim PlassmannWolfeMTAlphaE3L
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := plassmannWolfeMTAlphaE3ConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(PlassmannWolfeMTAlphaE3OutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !plassmannWolfeMTAlphaE3FiniteVec(&g) {
-				return best.ending(PlassmannWolfeMTAlphaE3NonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = plassmannWolfeMTAlphaE3VerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func plassmannWolfeMTAlphaE3Minimize(x0 [1]float64, lim PlassmannWolfeMTAlphaE3L
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if plassmannWolfeMTAlphaE3StepWithin(&s, &x, lim.Step) {
-				calls, ok := plassmannWolfeMTAlphaE3Settle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PlassmannWolfeMTAlphaE3OutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !plassmannWolfeMTAlphaE3FiniteVec(&g) {
-					return best.ending(PlassmannWolfeMTAlphaE3NonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = plassmannWolfeMTAlphaE3VerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func plassmannWolfeMTAlphaE3Minimize(x0 [1]float64, lim PlassmannWolfeMTAlphaE3L
 			case found.rising:
 				end = PlassmannWolfeMTAlphaE3NoDecrease
 			case found.end == plassmannWolfeMTAlphaE3SearchTiny && canSettle:
-				calls, ok := plassmannWolfeMTAlphaE3Settle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PlassmannWolfeMTAlphaE3OutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !plassmannWolfeMTAlphaE3FiniteVec(&g) {
-					return best.ending(PlassmannWolfeMTAlphaE3NonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = plassmannWolfeMTAlphaE3VerifyStall, true
 				continue
 			case found.end == plassmannWolfeMTAlphaE3SearchTiny:
 				end = PlassmannWolfeMTAlphaE3Stalled
@@ -436,51 +424,30 @@ func plassmannWolfeMTAlphaE3ScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
-// plassmannWolfeMTAlphaE3GradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func plassmannWolfeMTAlphaE3GradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *plassmannWolfeMTAlphaE3Differences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	plassmannWolfeMTAlphaE3VerifyNothing = iota
+	plassmannWolfeMTAlphaE3VerifyPass    // a difference gradient passed the test
+	plassmannWolfeMTAlphaE3VerifyStall   // no step makes progress
+)
 
-// plassmannWolfeMTAlphaE3GradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func plassmannWolfeMTAlphaE3GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
-	scale := plassmannWolfeMTAlphaE3Larger(plassmannWolfeMTAlphaE3Abs(fx), 1)
-	for i := range g {
-		w := plassmannWolfeMTAlphaE3Larger(plassmannWolfeMTAlphaE3Abs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = plassmannWolfeMTAlphaE3Larger(measure, (plassmannWolfeMTAlphaE3Abs(g[i])+e[i])*w)
-		floor = plassmannWolfeMTAlphaE3Larger(floor, e[i]*w)
+// plassmannWolfeMTAlphaE3Settle prepares a verdict at x: with differences it confirms the
+// gradient (plassmannWolfeMTAlphaE3ConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (plassmannWolfeMTAlphaE3RoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func plassmannWolfeMTAlphaE3Settle(x *[1]float64, fx float64, g, e *[1]float64, diffs *plassmannWolfeMTAlphaE3Differences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if plassmannWolfeMTAlphaE3DerivativeCost > 0 {
+		spent, ok := plassmannWolfeMTAlphaE3ConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// plassmannWolfeMTAlphaE3Larger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func plassmannWolfeMTAlphaE3Larger(a, b float64) float64 {
-	if a > b || a != a {
-		return a
+	if stall {
+		plassmannWolfeMTAlphaE3RoundingFloor(x, g, e, diffs)
 	}
-	return b
-}
-
-// plassmannWolfeMTAlphaE3Abs returns |v|.
-func plassmannWolfeMTAlphaE3Abs(v float64) float64 {
-	if v < 0 {
-		return -v
-	}
-	return v
+	return calls, true
 }
 
 // plassmannWolfeMTAlphaE3ConfirmGradient recomputes a difference gradient at x before the run is
@@ -513,33 +480,20 @@ func plassmannWolfeMTAlphaE3ConfirmGradient(x *[1]float64, fx float64, g, e *[1]
 	return calls + 2*plassmannWolfeMTAlphaE3DerivativeCost, true
 }
 
-// plassmannWolfeMTAlphaE3StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func plassmannWolfeMTAlphaE3StepWithin(s, x *[1]float64, tol float64) bool {
-	for i := range s {
-		if !(plassmannWolfeMTAlphaE3Abs(s[i]) <= tol*(plassmannWolfeMTAlphaE3Abs(x[i])+1)) {
-			return false
-		}
+// plassmannWolfeMTAlphaE3GradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func plassmannWolfeMTAlphaE3GradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *plassmannWolfeMTAlphaE3Differences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// plassmannWolfeMTAlphaE3Settle prepares the final verdict at a stall: with differences it
-// confirms the gradient (plassmannWolfeMTAlphaE3ConfirmGradient), then it adds to each error
-// bound the rounding floor of x (plassmannWolfeMTAlphaE3RoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func plassmannWolfeMTAlphaE3Settle(x *[1]float64, fx float64, g, e *[1]float64, diffs *plassmannWolfeMTAlphaE3Differences, budget int) (int, bool) {
-	calls := 0
-	if plassmannWolfeMTAlphaE3DerivativeCost > 0 {
-		spent, ok := plassmannWolfeMTAlphaE3ConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// plassmannWolfeMTAlphaE3Abs returns |v|.
+func plassmannWolfeMTAlphaE3Abs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	plassmannWolfeMTAlphaE3RoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // plassmannWolfeMTAlphaE3RoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -582,6 +536,49 @@ func plassmannWolfeMTAlphaE3ProbeStep(xi, h float64) (float64, float64) {
 // plassmannWolfeMTAlphaE3SquareRoot returns √v.
 func plassmannWolfeMTAlphaE3SquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// plassmannWolfeMTAlphaE3Larger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func plassmannWolfeMTAlphaE3Larger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// plassmannWolfeMTAlphaE3GradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func plassmannWolfeMTAlphaE3GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
+	scale := plassmannWolfeMTAlphaE3Larger(plassmannWolfeMTAlphaE3Abs(fx), 1)
+	for i := range g {
+		w := plassmannWolfeMTAlphaE3Larger(plassmannWolfeMTAlphaE3Abs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = plassmannWolfeMTAlphaE3Larger(measure, (plassmannWolfeMTAlphaE3Abs(g[i])+e[i])*w)
+		floor = plassmannWolfeMTAlphaE3Larger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// plassmannWolfeMTAlphaE3StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func plassmannWolfeMTAlphaE3StepWithin(s, x *[1]float64, tol float64) bool {
+	for i := range s {
+		if !(plassmannWolfeMTAlphaE3Abs(s[i]) <= tol*(plassmannWolfeMTAlphaE3Abs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // plassmannWolfeMTAlphaE3Dot returns aᵀb.

@@ -190,11 +190,25 @@ func plassmannWolfeMTAlphaEm1Minimize(x0 [1]float64, lim PlassmannWolfeMTAlphaEm
 	t, slope := float64(plassmannWolfeMTAlphaEm1StepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                          // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                                // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                   // whether g and e at x come from plassmannWolfeMTAlphaEm1ConfirmGradient
+	confirmed := false                                                   // whether g and e at x come from plassmannWolfeMTAlphaEm1ConfirmGradient or settle
 	stalled := false                                                     // whether the run can make no more progress at x
 	retried := -1                                                        // the iteration whose stall was retried with recalibrated differences
+	verify := plassmannWolfeMTAlphaEm1VerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != plassmannWolfeMTAlphaEm1VerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see plassmannWolfeMTAlphaEm1ConfirmGradient and settle).
+			calls, ok := plassmannWolfeMTAlphaEm1Settle(&x, fx, &g, &e, &diffs, verify == plassmannWolfeMTAlphaEm1VerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(PlassmannWolfeMTAlphaEm1OutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !plassmannWolfeMTAlphaEm1FiniteVec(&g) {
+				return best.ending(PlassmannWolfeMTAlphaEm1NonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = plassmannWolfeMTAlphaEm1VerifyNothing, true
+		case !confirmed:
 			plassmannWolfeMTAlphaEm1GradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := plassmannWolfeMTAlphaEm1GradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func plassmannWolfeMTAlphaEm1Minimize(x0 [1]float64, lim PlassmannWolfeMTAlphaEm
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := plassmannWolfeMTAlphaEm1ConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(PlassmannWolfeMTAlphaEm1OutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !plassmannWolfeMTAlphaEm1FiniteVec(&g) {
-				return best.ending(PlassmannWolfeMTAlphaEm1NonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = plassmannWolfeMTAlphaEm1VerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func plassmannWolfeMTAlphaEm1Minimize(x0 [1]float64, lim PlassmannWolfeMTAlphaEm
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if plassmannWolfeMTAlphaEm1StepWithin(&s, &x, lim.Step) {
-				calls, ok := plassmannWolfeMTAlphaEm1Settle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PlassmannWolfeMTAlphaEm1OutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !plassmannWolfeMTAlphaEm1FiniteVec(&g) {
-					return best.ending(PlassmannWolfeMTAlphaEm1NonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = plassmannWolfeMTAlphaEm1VerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func plassmannWolfeMTAlphaEm1Minimize(x0 [1]float64, lim PlassmannWolfeMTAlphaEm
 			case found.rising:
 				end = PlassmannWolfeMTAlphaEm1NoDecrease
 			case found.end == plassmannWolfeMTAlphaEm1SearchTiny && canSettle:
-				calls, ok := plassmannWolfeMTAlphaEm1Settle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PlassmannWolfeMTAlphaEm1OutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !plassmannWolfeMTAlphaEm1FiniteVec(&g) {
-					return best.ending(PlassmannWolfeMTAlphaEm1NonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = plassmannWolfeMTAlphaEm1VerifyStall, true
 				continue
 			case found.end == plassmannWolfeMTAlphaEm1SearchTiny:
 				end = PlassmannWolfeMTAlphaEm1Stalled
@@ -436,51 +424,30 @@ func plassmannWolfeMTAlphaEm1ScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
-// plassmannWolfeMTAlphaEm1GradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func plassmannWolfeMTAlphaEm1GradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *plassmannWolfeMTAlphaEm1Differences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	plassmannWolfeMTAlphaEm1VerifyNothing = iota
+	plassmannWolfeMTAlphaEm1VerifyPass    // a difference gradient passed the test
+	plassmannWolfeMTAlphaEm1VerifyStall   // no step makes progress
+)
 
-// plassmannWolfeMTAlphaEm1GradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func plassmannWolfeMTAlphaEm1GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
-	scale := plassmannWolfeMTAlphaEm1Larger(plassmannWolfeMTAlphaEm1Abs(fx), 1)
-	for i := range g {
-		w := plassmannWolfeMTAlphaEm1Larger(plassmannWolfeMTAlphaEm1Abs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = plassmannWolfeMTAlphaEm1Larger(measure, (plassmannWolfeMTAlphaEm1Abs(g[i])+e[i])*w)
-		floor = plassmannWolfeMTAlphaEm1Larger(floor, e[i]*w)
+// plassmannWolfeMTAlphaEm1Settle prepares a verdict at x: with differences it confirms the
+// gradient (plassmannWolfeMTAlphaEm1ConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (plassmannWolfeMTAlphaEm1RoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func plassmannWolfeMTAlphaEm1Settle(x *[1]float64, fx float64, g, e *[1]float64, diffs *plassmannWolfeMTAlphaEm1Differences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if plassmannWolfeMTAlphaEm1DerivativeCost > 0 {
+		spent, ok := plassmannWolfeMTAlphaEm1ConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// plassmannWolfeMTAlphaEm1Larger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func plassmannWolfeMTAlphaEm1Larger(a, b float64) float64 {
-	if a > b || a != a {
-		return a
+	if stall {
+		plassmannWolfeMTAlphaEm1RoundingFloor(x, g, e, diffs)
 	}
-	return b
-}
-
-// plassmannWolfeMTAlphaEm1Abs returns |v|.
-func plassmannWolfeMTAlphaEm1Abs(v float64) float64 {
-	if v < 0 {
-		return -v
-	}
-	return v
+	return calls, true
 }
 
 // plassmannWolfeMTAlphaEm1ConfirmGradient recomputes a difference gradient at x before the run is
@@ -513,33 +480,20 @@ func plassmannWolfeMTAlphaEm1ConfirmGradient(x *[1]float64, fx float64, g, e *[1
 	return calls + 2*plassmannWolfeMTAlphaEm1DerivativeCost, true
 }
 
-// plassmannWolfeMTAlphaEm1StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func plassmannWolfeMTAlphaEm1StepWithin(s, x *[1]float64, tol float64) bool {
-	for i := range s {
-		if !(plassmannWolfeMTAlphaEm1Abs(s[i]) <= tol*(plassmannWolfeMTAlphaEm1Abs(x[i])+1)) {
-			return false
-		}
+// plassmannWolfeMTAlphaEm1GradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func plassmannWolfeMTAlphaEm1GradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *plassmannWolfeMTAlphaEm1Differences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// plassmannWolfeMTAlphaEm1Settle prepares the final verdict at a stall: with differences it
-// confirms the gradient (plassmannWolfeMTAlphaEm1ConfirmGradient), then it adds to each error
-// bound the rounding floor of x (plassmannWolfeMTAlphaEm1RoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func plassmannWolfeMTAlphaEm1Settle(x *[1]float64, fx float64, g, e *[1]float64, diffs *plassmannWolfeMTAlphaEm1Differences, budget int) (int, bool) {
-	calls := 0
-	if plassmannWolfeMTAlphaEm1DerivativeCost > 0 {
-		spent, ok := plassmannWolfeMTAlphaEm1ConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// plassmannWolfeMTAlphaEm1Abs returns |v|.
+func plassmannWolfeMTAlphaEm1Abs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	plassmannWolfeMTAlphaEm1RoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // plassmannWolfeMTAlphaEm1RoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -582,6 +536,49 @@ func plassmannWolfeMTAlphaEm1ProbeStep(xi, h float64) (float64, float64) {
 // plassmannWolfeMTAlphaEm1SquareRoot returns √v.
 func plassmannWolfeMTAlphaEm1SquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// plassmannWolfeMTAlphaEm1Larger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func plassmannWolfeMTAlphaEm1Larger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// plassmannWolfeMTAlphaEm1GradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func plassmannWolfeMTAlphaEm1GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
+	scale := plassmannWolfeMTAlphaEm1Larger(plassmannWolfeMTAlphaEm1Abs(fx), 1)
+	for i := range g {
+		w := plassmannWolfeMTAlphaEm1Larger(plassmannWolfeMTAlphaEm1Abs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = plassmannWolfeMTAlphaEm1Larger(measure, (plassmannWolfeMTAlphaEm1Abs(g[i])+e[i])*w)
+		floor = plassmannWolfeMTAlphaEm1Larger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// plassmannWolfeMTAlphaEm1StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func plassmannWolfeMTAlphaEm1StepWithin(s, x *[1]float64, tol float64) bool {
+	for i := range s {
+		if !(plassmannWolfeMTAlphaEm1Abs(s[i]) <= tol*(plassmannWolfeMTAlphaEm1Abs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // plassmannWolfeMTAlphaEm1Dot returns aᵀb.

@@ -190,11 +190,25 @@ func plassmannWolfeMTAlphaEm3Minimize(x0 [1]float64, lim PlassmannWolfeMTAlphaEm
 	t, slope := float64(plassmannWolfeMTAlphaEm3StepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                          // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                                // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                   // whether g and e at x come from plassmannWolfeMTAlphaEm3ConfirmGradient
+	confirmed := false                                                   // whether g and e at x come from plassmannWolfeMTAlphaEm3ConfirmGradient or settle
 	stalled := false                                                     // whether the run can make no more progress at x
 	retried := -1                                                        // the iteration whose stall was retried with recalibrated differences
+	verify := plassmannWolfeMTAlphaEm3VerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != plassmannWolfeMTAlphaEm3VerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see plassmannWolfeMTAlphaEm3ConfirmGradient and settle).
+			calls, ok := plassmannWolfeMTAlphaEm3Settle(&x, fx, &g, &e, &diffs, verify == plassmannWolfeMTAlphaEm3VerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(PlassmannWolfeMTAlphaEm3OutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !plassmannWolfeMTAlphaEm3FiniteVec(&g) {
+				return best.ending(PlassmannWolfeMTAlphaEm3NonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = plassmannWolfeMTAlphaEm3VerifyNothing, true
+		case !confirmed:
 			plassmannWolfeMTAlphaEm3GradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := plassmannWolfeMTAlphaEm3GradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func plassmannWolfeMTAlphaEm3Minimize(x0 [1]float64, lim PlassmannWolfeMTAlphaEm
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := plassmannWolfeMTAlphaEm3ConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(PlassmannWolfeMTAlphaEm3OutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !plassmannWolfeMTAlphaEm3FiniteVec(&g) {
-				return best.ending(PlassmannWolfeMTAlphaEm3NonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = plassmannWolfeMTAlphaEm3VerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func plassmannWolfeMTAlphaEm3Minimize(x0 [1]float64, lim PlassmannWolfeMTAlphaEm
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if plassmannWolfeMTAlphaEm3StepWithin(&s, &x, lim.Step) {
-				calls, ok := plassmannWolfeMTAlphaEm3Settle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PlassmannWolfeMTAlphaEm3OutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !plassmannWolfeMTAlphaEm3FiniteVec(&g) {
-					return best.ending(PlassmannWolfeMTAlphaEm3NonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = plassmannWolfeMTAlphaEm3VerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func plassmannWolfeMTAlphaEm3Minimize(x0 [1]float64, lim PlassmannWolfeMTAlphaEm
 			case found.rising:
 				end = PlassmannWolfeMTAlphaEm3NoDecrease
 			case found.end == plassmannWolfeMTAlphaEm3SearchTiny && canSettle:
-				calls, ok := plassmannWolfeMTAlphaEm3Settle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PlassmannWolfeMTAlphaEm3OutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !plassmannWolfeMTAlphaEm3FiniteVec(&g) {
-					return best.ending(PlassmannWolfeMTAlphaEm3NonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = plassmannWolfeMTAlphaEm3VerifyStall, true
 				continue
 			case found.end == plassmannWolfeMTAlphaEm3SearchTiny:
 				end = PlassmannWolfeMTAlphaEm3Stalled
@@ -436,51 +424,30 @@ func plassmannWolfeMTAlphaEm3ScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
-// plassmannWolfeMTAlphaEm3GradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func plassmannWolfeMTAlphaEm3GradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *plassmannWolfeMTAlphaEm3Differences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	plassmannWolfeMTAlphaEm3VerifyNothing = iota
+	plassmannWolfeMTAlphaEm3VerifyPass    // a difference gradient passed the test
+	plassmannWolfeMTAlphaEm3VerifyStall   // no step makes progress
+)
 
-// plassmannWolfeMTAlphaEm3GradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func plassmannWolfeMTAlphaEm3GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
-	scale := plassmannWolfeMTAlphaEm3Larger(plassmannWolfeMTAlphaEm3Abs(fx), 1)
-	for i := range g {
-		w := plassmannWolfeMTAlphaEm3Larger(plassmannWolfeMTAlphaEm3Abs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = plassmannWolfeMTAlphaEm3Larger(measure, (plassmannWolfeMTAlphaEm3Abs(g[i])+e[i])*w)
-		floor = plassmannWolfeMTAlphaEm3Larger(floor, e[i]*w)
+// plassmannWolfeMTAlphaEm3Settle prepares a verdict at x: with differences it confirms the
+// gradient (plassmannWolfeMTAlphaEm3ConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (plassmannWolfeMTAlphaEm3RoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func plassmannWolfeMTAlphaEm3Settle(x *[1]float64, fx float64, g, e *[1]float64, diffs *plassmannWolfeMTAlphaEm3Differences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if plassmannWolfeMTAlphaEm3DerivativeCost > 0 {
+		spent, ok := plassmannWolfeMTAlphaEm3ConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// plassmannWolfeMTAlphaEm3Larger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func plassmannWolfeMTAlphaEm3Larger(a, b float64) float64 {
-	if a > b || a != a {
-		return a
+	if stall {
+		plassmannWolfeMTAlphaEm3RoundingFloor(x, g, e, diffs)
 	}
-	return b
-}
-
-// plassmannWolfeMTAlphaEm3Abs returns |v|.
-func plassmannWolfeMTAlphaEm3Abs(v float64) float64 {
-	if v < 0 {
-		return -v
-	}
-	return v
+	return calls, true
 }
 
 // plassmannWolfeMTAlphaEm3ConfirmGradient recomputes a difference gradient at x before the run is
@@ -513,33 +480,20 @@ func plassmannWolfeMTAlphaEm3ConfirmGradient(x *[1]float64, fx float64, g, e *[1
 	return calls + 2*plassmannWolfeMTAlphaEm3DerivativeCost, true
 }
 
-// plassmannWolfeMTAlphaEm3StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func plassmannWolfeMTAlphaEm3StepWithin(s, x *[1]float64, tol float64) bool {
-	for i := range s {
-		if !(plassmannWolfeMTAlphaEm3Abs(s[i]) <= tol*(plassmannWolfeMTAlphaEm3Abs(x[i])+1)) {
-			return false
-		}
+// plassmannWolfeMTAlphaEm3GradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func plassmannWolfeMTAlphaEm3GradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *plassmannWolfeMTAlphaEm3Differences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// plassmannWolfeMTAlphaEm3Settle prepares the final verdict at a stall: with differences it
-// confirms the gradient (plassmannWolfeMTAlphaEm3ConfirmGradient), then it adds to each error
-// bound the rounding floor of x (plassmannWolfeMTAlphaEm3RoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func plassmannWolfeMTAlphaEm3Settle(x *[1]float64, fx float64, g, e *[1]float64, diffs *plassmannWolfeMTAlphaEm3Differences, budget int) (int, bool) {
-	calls := 0
-	if plassmannWolfeMTAlphaEm3DerivativeCost > 0 {
-		spent, ok := plassmannWolfeMTAlphaEm3ConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// plassmannWolfeMTAlphaEm3Abs returns |v|.
+func plassmannWolfeMTAlphaEm3Abs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	plassmannWolfeMTAlphaEm3RoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // plassmannWolfeMTAlphaEm3RoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -582,6 +536,49 @@ func plassmannWolfeMTAlphaEm3ProbeStep(xi, h float64) (float64, float64) {
 // plassmannWolfeMTAlphaEm3SquareRoot returns √v.
 func plassmannWolfeMTAlphaEm3SquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// plassmannWolfeMTAlphaEm3Larger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func plassmannWolfeMTAlphaEm3Larger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// plassmannWolfeMTAlphaEm3GradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func plassmannWolfeMTAlphaEm3GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
+	scale := plassmannWolfeMTAlphaEm3Larger(plassmannWolfeMTAlphaEm3Abs(fx), 1)
+	for i := range g {
+		w := plassmannWolfeMTAlphaEm3Larger(plassmannWolfeMTAlphaEm3Abs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = plassmannWolfeMTAlphaEm3Larger(measure, (plassmannWolfeMTAlphaEm3Abs(g[i])+e[i])*w)
+		floor = plassmannWolfeMTAlphaEm3Larger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// plassmannWolfeMTAlphaEm3StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func plassmannWolfeMTAlphaEm3StepWithin(s, x *[1]float64, tol float64) bool {
+	for i := range s {
+		if !(plassmannWolfeMTAlphaEm3Abs(s[i]) <= tol*(plassmannWolfeMTAlphaEm3Abs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // plassmannWolfeMTAlphaEm3Dot returns aᵀb.

@@ -190,11 +190,25 @@ func plassmannWolfeNWAlphaE3Minimize(x0 [1]float64, lim PlassmannWolfeNWAlphaE3L
 	t, slope := float64(plassmannWolfeNWAlphaE3StepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                         // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                               // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                  // whether g and e at x come from plassmannWolfeNWAlphaE3ConfirmGradient
+	confirmed := false                                                  // whether g and e at x come from plassmannWolfeNWAlphaE3ConfirmGradient or settle
 	stalled := false                                                    // whether the run can make no more progress at x
 	retried := -1                                                       // the iteration whose stall was retried with recalibrated differences
+	verify := plassmannWolfeNWAlphaE3VerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != plassmannWolfeNWAlphaE3VerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see plassmannWolfeNWAlphaE3ConfirmGradient and settle).
+			calls, ok := plassmannWolfeNWAlphaE3Settle(&x, fx, &g, &e, &diffs, verify == plassmannWolfeNWAlphaE3VerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(PlassmannWolfeNWAlphaE3OutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !plassmannWolfeNWAlphaE3FiniteVec(&g) {
+				return best.ending(PlassmannWolfeNWAlphaE3NonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = plassmannWolfeNWAlphaE3VerifyNothing, true
+		case !confirmed:
 			plassmannWolfeNWAlphaE3GradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := plassmannWolfeNWAlphaE3GradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func plassmannWolfeNWAlphaE3Minimize(x0 [1]float64, lim PlassmannWolfeNWAlphaE3L
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := plassmannWolfeNWAlphaE3ConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(PlassmannWolfeNWAlphaE3OutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !plassmannWolfeNWAlphaE3FiniteVec(&g) {
-				return best.ending(PlassmannWolfeNWAlphaE3NonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = plassmannWolfeNWAlphaE3VerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func plassmannWolfeNWAlphaE3Minimize(x0 [1]float64, lim PlassmannWolfeNWAlphaE3L
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if plassmannWolfeNWAlphaE3StepWithin(&s, &x, lim.Step) {
-				calls, ok := plassmannWolfeNWAlphaE3Settle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PlassmannWolfeNWAlphaE3OutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !plassmannWolfeNWAlphaE3FiniteVec(&g) {
-					return best.ending(PlassmannWolfeNWAlphaE3NonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = plassmannWolfeNWAlphaE3VerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func plassmannWolfeNWAlphaE3Minimize(x0 [1]float64, lim PlassmannWolfeNWAlphaE3L
 			case found.rising:
 				end = PlassmannWolfeNWAlphaE3NoDecrease
 			case found.end == plassmannWolfeNWAlphaE3SearchTiny && canSettle:
-				calls, ok := plassmannWolfeNWAlphaE3Settle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PlassmannWolfeNWAlphaE3OutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !plassmannWolfeNWAlphaE3FiniteVec(&g) {
-					return best.ending(PlassmannWolfeNWAlphaE3NonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = plassmannWolfeNWAlphaE3VerifyStall, true
 				continue
 			case found.end == plassmannWolfeNWAlphaE3SearchTiny:
 				end = PlassmannWolfeNWAlphaE3Stalled
@@ -436,51 +424,30 @@ func plassmannWolfeNWAlphaE3ScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
-// plassmannWolfeNWAlphaE3GradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func plassmannWolfeNWAlphaE3GradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *plassmannWolfeNWAlphaE3Differences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	plassmannWolfeNWAlphaE3VerifyNothing = iota
+	plassmannWolfeNWAlphaE3VerifyPass    // a difference gradient passed the test
+	plassmannWolfeNWAlphaE3VerifyStall   // no step makes progress
+)
 
-// plassmannWolfeNWAlphaE3GradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func plassmannWolfeNWAlphaE3GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
-	scale := plassmannWolfeNWAlphaE3Larger(plassmannWolfeNWAlphaE3Abs(fx), 1)
-	for i := range g {
-		w := plassmannWolfeNWAlphaE3Larger(plassmannWolfeNWAlphaE3Abs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = plassmannWolfeNWAlphaE3Larger(measure, (plassmannWolfeNWAlphaE3Abs(g[i])+e[i])*w)
-		floor = plassmannWolfeNWAlphaE3Larger(floor, e[i]*w)
+// plassmannWolfeNWAlphaE3Settle prepares a verdict at x: with differences it confirms the
+// gradient (plassmannWolfeNWAlphaE3ConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (plassmannWolfeNWAlphaE3RoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func plassmannWolfeNWAlphaE3Settle(x *[1]float64, fx float64, g, e *[1]float64, diffs *plassmannWolfeNWAlphaE3Differences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if plassmannWolfeNWAlphaE3DerivativeCost > 0 {
+		spent, ok := plassmannWolfeNWAlphaE3ConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// plassmannWolfeNWAlphaE3Larger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func plassmannWolfeNWAlphaE3Larger(a, b float64) float64 {
-	if a > b || a != a {
-		return a
+	if stall {
+		plassmannWolfeNWAlphaE3RoundingFloor(x, g, e, diffs)
 	}
-	return b
-}
-
-// plassmannWolfeNWAlphaE3Abs returns |v|.
-func plassmannWolfeNWAlphaE3Abs(v float64) float64 {
-	if v < 0 {
-		return -v
-	}
-	return v
+	return calls, true
 }
 
 // plassmannWolfeNWAlphaE3ConfirmGradient recomputes a difference gradient at x before the run is
@@ -513,33 +480,20 @@ func plassmannWolfeNWAlphaE3ConfirmGradient(x *[1]float64, fx float64, g, e *[1]
 	return calls + 2*plassmannWolfeNWAlphaE3DerivativeCost, true
 }
 
-// plassmannWolfeNWAlphaE3StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func plassmannWolfeNWAlphaE3StepWithin(s, x *[1]float64, tol float64) bool {
-	for i := range s {
-		if !(plassmannWolfeNWAlphaE3Abs(s[i]) <= tol*(plassmannWolfeNWAlphaE3Abs(x[i])+1)) {
-			return false
-		}
+// plassmannWolfeNWAlphaE3GradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func plassmannWolfeNWAlphaE3GradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *plassmannWolfeNWAlphaE3Differences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// plassmannWolfeNWAlphaE3Settle prepares the final verdict at a stall: with differences it
-// confirms the gradient (plassmannWolfeNWAlphaE3ConfirmGradient), then it adds to each error
-// bound the rounding floor of x (plassmannWolfeNWAlphaE3RoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func plassmannWolfeNWAlphaE3Settle(x *[1]float64, fx float64, g, e *[1]float64, diffs *plassmannWolfeNWAlphaE3Differences, budget int) (int, bool) {
-	calls := 0
-	if plassmannWolfeNWAlphaE3DerivativeCost > 0 {
-		spent, ok := plassmannWolfeNWAlphaE3ConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// plassmannWolfeNWAlphaE3Abs returns |v|.
+func plassmannWolfeNWAlphaE3Abs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	plassmannWolfeNWAlphaE3RoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // plassmannWolfeNWAlphaE3RoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -582,6 +536,49 @@ func plassmannWolfeNWAlphaE3ProbeStep(xi, h float64) (float64, float64) {
 // plassmannWolfeNWAlphaE3SquareRoot returns √v.
 func plassmannWolfeNWAlphaE3SquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// plassmannWolfeNWAlphaE3Larger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func plassmannWolfeNWAlphaE3Larger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// plassmannWolfeNWAlphaE3GradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func plassmannWolfeNWAlphaE3GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
+	scale := plassmannWolfeNWAlphaE3Larger(plassmannWolfeNWAlphaE3Abs(fx), 1)
+	for i := range g {
+		w := plassmannWolfeNWAlphaE3Larger(plassmannWolfeNWAlphaE3Abs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = plassmannWolfeNWAlphaE3Larger(measure, (plassmannWolfeNWAlphaE3Abs(g[i])+e[i])*w)
+		floor = plassmannWolfeNWAlphaE3Larger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// plassmannWolfeNWAlphaE3StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func plassmannWolfeNWAlphaE3StepWithin(s, x *[1]float64, tol float64) bool {
+	for i := range s {
+		if !(plassmannWolfeNWAlphaE3Abs(s[i]) <= tol*(plassmannWolfeNWAlphaE3Abs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // plassmannWolfeNWAlphaE3Dot returns aᵀb.

@@ -190,11 +190,25 @@ func plassmannWolfeNWAlphaEm1Minimize(x0 [1]float64, lim PlassmannWolfeNWAlphaEm
 	t, slope := float64(plassmannWolfeNWAlphaEm1StepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                          // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                                // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                   // whether g and e at x come from plassmannWolfeNWAlphaEm1ConfirmGradient
+	confirmed := false                                                   // whether g and e at x come from plassmannWolfeNWAlphaEm1ConfirmGradient or settle
 	stalled := false                                                     // whether the run can make no more progress at x
 	retried := -1                                                        // the iteration whose stall was retried with recalibrated differences
+	verify := plassmannWolfeNWAlphaEm1VerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != plassmannWolfeNWAlphaEm1VerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see plassmannWolfeNWAlphaEm1ConfirmGradient and settle).
+			calls, ok := plassmannWolfeNWAlphaEm1Settle(&x, fx, &g, &e, &diffs, verify == plassmannWolfeNWAlphaEm1VerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(PlassmannWolfeNWAlphaEm1OutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !plassmannWolfeNWAlphaEm1FiniteVec(&g) {
+				return best.ending(PlassmannWolfeNWAlphaEm1NonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = plassmannWolfeNWAlphaEm1VerifyNothing, true
+		case !confirmed:
 			plassmannWolfeNWAlphaEm1GradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := plassmannWolfeNWAlphaEm1GradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func plassmannWolfeNWAlphaEm1Minimize(x0 [1]float64, lim PlassmannWolfeNWAlphaEm
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := plassmannWolfeNWAlphaEm1ConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(PlassmannWolfeNWAlphaEm1OutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !plassmannWolfeNWAlphaEm1FiniteVec(&g) {
-				return best.ending(PlassmannWolfeNWAlphaEm1NonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = plassmannWolfeNWAlphaEm1VerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func plassmannWolfeNWAlphaEm1Minimize(x0 [1]float64, lim PlassmannWolfeNWAlphaEm
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if plassmannWolfeNWAlphaEm1StepWithin(&s, &x, lim.Step) {
-				calls, ok := plassmannWolfeNWAlphaEm1Settle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PlassmannWolfeNWAlphaEm1OutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !plassmannWolfeNWAlphaEm1FiniteVec(&g) {
-					return best.ending(PlassmannWolfeNWAlphaEm1NonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = plassmannWolfeNWAlphaEm1VerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func plassmannWolfeNWAlphaEm1Minimize(x0 [1]float64, lim PlassmannWolfeNWAlphaEm
 			case found.rising:
 				end = PlassmannWolfeNWAlphaEm1NoDecrease
 			case found.end == plassmannWolfeNWAlphaEm1SearchTiny && canSettle:
-				calls, ok := plassmannWolfeNWAlphaEm1Settle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PlassmannWolfeNWAlphaEm1OutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !plassmannWolfeNWAlphaEm1FiniteVec(&g) {
-					return best.ending(PlassmannWolfeNWAlphaEm1NonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = plassmannWolfeNWAlphaEm1VerifyStall, true
 				continue
 			case found.end == plassmannWolfeNWAlphaEm1SearchTiny:
 				end = PlassmannWolfeNWAlphaEm1Stalled
@@ -436,51 +424,30 @@ func plassmannWolfeNWAlphaEm1ScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
-// plassmannWolfeNWAlphaEm1GradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func plassmannWolfeNWAlphaEm1GradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *plassmannWolfeNWAlphaEm1Differences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	plassmannWolfeNWAlphaEm1VerifyNothing = iota
+	plassmannWolfeNWAlphaEm1VerifyPass    // a difference gradient passed the test
+	plassmannWolfeNWAlphaEm1VerifyStall   // no step makes progress
+)
 
-// plassmannWolfeNWAlphaEm1GradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func plassmannWolfeNWAlphaEm1GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
-	scale := plassmannWolfeNWAlphaEm1Larger(plassmannWolfeNWAlphaEm1Abs(fx), 1)
-	for i := range g {
-		w := plassmannWolfeNWAlphaEm1Larger(plassmannWolfeNWAlphaEm1Abs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = plassmannWolfeNWAlphaEm1Larger(measure, (plassmannWolfeNWAlphaEm1Abs(g[i])+e[i])*w)
-		floor = plassmannWolfeNWAlphaEm1Larger(floor, e[i]*w)
+// plassmannWolfeNWAlphaEm1Settle prepares a verdict at x: with differences it confirms the
+// gradient (plassmannWolfeNWAlphaEm1ConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (plassmannWolfeNWAlphaEm1RoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func plassmannWolfeNWAlphaEm1Settle(x *[1]float64, fx float64, g, e *[1]float64, diffs *plassmannWolfeNWAlphaEm1Differences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if plassmannWolfeNWAlphaEm1DerivativeCost > 0 {
+		spent, ok := plassmannWolfeNWAlphaEm1ConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// plassmannWolfeNWAlphaEm1Larger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func plassmannWolfeNWAlphaEm1Larger(a, b float64) float64 {
-	if a > b || a != a {
-		return a
+	if stall {
+		plassmannWolfeNWAlphaEm1RoundingFloor(x, g, e, diffs)
 	}
-	return b
-}
-
-// plassmannWolfeNWAlphaEm1Abs returns |v|.
-func plassmannWolfeNWAlphaEm1Abs(v float64) float64 {
-	if v < 0 {
-		return -v
-	}
-	return v
+	return calls, true
 }
 
 // plassmannWolfeNWAlphaEm1ConfirmGradient recomputes a difference gradient at x before the run is
@@ -513,33 +480,20 @@ func plassmannWolfeNWAlphaEm1ConfirmGradient(x *[1]float64, fx float64, g, e *[1
 	return calls + 2*plassmannWolfeNWAlphaEm1DerivativeCost, true
 }
 
-// plassmannWolfeNWAlphaEm1StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func plassmannWolfeNWAlphaEm1StepWithin(s, x *[1]float64, tol float64) bool {
-	for i := range s {
-		if !(plassmannWolfeNWAlphaEm1Abs(s[i]) <= tol*(plassmannWolfeNWAlphaEm1Abs(x[i])+1)) {
-			return false
-		}
+// plassmannWolfeNWAlphaEm1GradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func plassmannWolfeNWAlphaEm1GradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *plassmannWolfeNWAlphaEm1Differences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// plassmannWolfeNWAlphaEm1Settle prepares the final verdict at a stall: with differences it
-// confirms the gradient (plassmannWolfeNWAlphaEm1ConfirmGradient), then it adds to each error
-// bound the rounding floor of x (plassmannWolfeNWAlphaEm1RoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func plassmannWolfeNWAlphaEm1Settle(x *[1]float64, fx float64, g, e *[1]float64, diffs *plassmannWolfeNWAlphaEm1Differences, budget int) (int, bool) {
-	calls := 0
-	if plassmannWolfeNWAlphaEm1DerivativeCost > 0 {
-		spent, ok := plassmannWolfeNWAlphaEm1ConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// plassmannWolfeNWAlphaEm1Abs returns |v|.
+func plassmannWolfeNWAlphaEm1Abs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	plassmannWolfeNWAlphaEm1RoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // plassmannWolfeNWAlphaEm1RoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -582,6 +536,49 @@ func plassmannWolfeNWAlphaEm1ProbeStep(xi, h float64) (float64, float64) {
 // plassmannWolfeNWAlphaEm1SquareRoot returns √v.
 func plassmannWolfeNWAlphaEm1SquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// plassmannWolfeNWAlphaEm1Larger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func plassmannWolfeNWAlphaEm1Larger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// plassmannWolfeNWAlphaEm1GradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func plassmannWolfeNWAlphaEm1GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
+	scale := plassmannWolfeNWAlphaEm1Larger(plassmannWolfeNWAlphaEm1Abs(fx), 1)
+	for i := range g {
+		w := plassmannWolfeNWAlphaEm1Larger(plassmannWolfeNWAlphaEm1Abs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = plassmannWolfeNWAlphaEm1Larger(measure, (plassmannWolfeNWAlphaEm1Abs(g[i])+e[i])*w)
+		floor = plassmannWolfeNWAlphaEm1Larger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// plassmannWolfeNWAlphaEm1StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func plassmannWolfeNWAlphaEm1StepWithin(s, x *[1]float64, tol float64) bool {
+	for i := range s {
+		if !(plassmannWolfeNWAlphaEm1Abs(s[i]) <= tol*(plassmannWolfeNWAlphaEm1Abs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // plassmannWolfeNWAlphaEm1Dot returns aᵀb.

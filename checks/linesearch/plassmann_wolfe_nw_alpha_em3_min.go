@@ -190,11 +190,25 @@ func plassmannWolfeNWAlphaEm3Minimize(x0 [1]float64, lim PlassmannWolfeNWAlphaEm
 	t, slope := float64(plassmannWolfeNWAlphaEm3StepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                          // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                                // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                   // whether g and e at x come from plassmannWolfeNWAlphaEm3ConfirmGradient
+	confirmed := false                                                   // whether g and e at x come from plassmannWolfeNWAlphaEm3ConfirmGradient or settle
 	stalled := false                                                     // whether the run can make no more progress at x
 	retried := -1                                                        // the iteration whose stall was retried with recalibrated differences
+	verify := plassmannWolfeNWAlphaEm3VerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != plassmannWolfeNWAlphaEm3VerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see plassmannWolfeNWAlphaEm3ConfirmGradient and settle).
+			calls, ok := plassmannWolfeNWAlphaEm3Settle(&x, fx, &g, &e, &diffs, verify == plassmannWolfeNWAlphaEm3VerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(PlassmannWolfeNWAlphaEm3OutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !plassmannWolfeNWAlphaEm3FiniteVec(&g) {
+				return best.ending(PlassmannWolfeNWAlphaEm3NonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = plassmannWolfeNWAlphaEm3VerifyNothing, true
+		case !confirmed:
 			plassmannWolfeNWAlphaEm3GradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := plassmannWolfeNWAlphaEm3GradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func plassmannWolfeNWAlphaEm3Minimize(x0 [1]float64, lim PlassmannWolfeNWAlphaEm
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := plassmannWolfeNWAlphaEm3ConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(PlassmannWolfeNWAlphaEm3OutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !plassmannWolfeNWAlphaEm3FiniteVec(&g) {
-				return best.ending(PlassmannWolfeNWAlphaEm3NonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = plassmannWolfeNWAlphaEm3VerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func plassmannWolfeNWAlphaEm3Minimize(x0 [1]float64, lim PlassmannWolfeNWAlphaEm
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if plassmannWolfeNWAlphaEm3StepWithin(&s, &x, lim.Step) {
-				calls, ok := plassmannWolfeNWAlphaEm3Settle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PlassmannWolfeNWAlphaEm3OutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !plassmannWolfeNWAlphaEm3FiniteVec(&g) {
-					return best.ending(PlassmannWolfeNWAlphaEm3NonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = plassmannWolfeNWAlphaEm3VerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func plassmannWolfeNWAlphaEm3Minimize(x0 [1]float64, lim PlassmannWolfeNWAlphaEm
 			case found.rising:
 				end = PlassmannWolfeNWAlphaEm3NoDecrease
 			case found.end == plassmannWolfeNWAlphaEm3SearchTiny && canSettle:
-				calls, ok := plassmannWolfeNWAlphaEm3Settle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PlassmannWolfeNWAlphaEm3OutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !plassmannWolfeNWAlphaEm3FiniteVec(&g) {
-					return best.ending(PlassmannWolfeNWAlphaEm3NonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = plassmannWolfeNWAlphaEm3VerifyStall, true
 				continue
 			case found.end == plassmannWolfeNWAlphaEm3SearchTiny:
 				end = PlassmannWolfeNWAlphaEm3Stalled
@@ -436,51 +424,30 @@ func plassmannWolfeNWAlphaEm3ScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
-// plassmannWolfeNWAlphaEm3GradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func plassmannWolfeNWAlphaEm3GradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *plassmannWolfeNWAlphaEm3Differences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	plassmannWolfeNWAlphaEm3VerifyNothing = iota
+	plassmannWolfeNWAlphaEm3VerifyPass    // a difference gradient passed the test
+	plassmannWolfeNWAlphaEm3VerifyStall   // no step makes progress
+)
 
-// plassmannWolfeNWAlphaEm3GradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func plassmannWolfeNWAlphaEm3GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
-	scale := plassmannWolfeNWAlphaEm3Larger(plassmannWolfeNWAlphaEm3Abs(fx), 1)
-	for i := range g {
-		w := plassmannWolfeNWAlphaEm3Larger(plassmannWolfeNWAlphaEm3Abs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = plassmannWolfeNWAlphaEm3Larger(measure, (plassmannWolfeNWAlphaEm3Abs(g[i])+e[i])*w)
-		floor = plassmannWolfeNWAlphaEm3Larger(floor, e[i]*w)
+// plassmannWolfeNWAlphaEm3Settle prepares a verdict at x: with differences it confirms the
+// gradient (plassmannWolfeNWAlphaEm3ConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (plassmannWolfeNWAlphaEm3RoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func plassmannWolfeNWAlphaEm3Settle(x *[1]float64, fx float64, g, e *[1]float64, diffs *plassmannWolfeNWAlphaEm3Differences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if plassmannWolfeNWAlphaEm3DerivativeCost > 0 {
+		spent, ok := plassmannWolfeNWAlphaEm3ConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// plassmannWolfeNWAlphaEm3Larger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func plassmannWolfeNWAlphaEm3Larger(a, b float64) float64 {
-	if a > b || a != a {
-		return a
+	if stall {
+		plassmannWolfeNWAlphaEm3RoundingFloor(x, g, e, diffs)
 	}
-	return b
-}
-
-// plassmannWolfeNWAlphaEm3Abs returns |v|.
-func plassmannWolfeNWAlphaEm3Abs(v float64) float64 {
-	if v < 0 {
-		return -v
-	}
-	return v
+	return calls, true
 }
 
 // plassmannWolfeNWAlphaEm3ConfirmGradient recomputes a difference gradient at x before the run is
@@ -513,33 +480,20 @@ func plassmannWolfeNWAlphaEm3ConfirmGradient(x *[1]float64, fx float64, g, e *[1
 	return calls + 2*plassmannWolfeNWAlphaEm3DerivativeCost, true
 }
 
-// plassmannWolfeNWAlphaEm3StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func plassmannWolfeNWAlphaEm3StepWithin(s, x *[1]float64, tol float64) bool {
-	for i := range s {
-		if !(plassmannWolfeNWAlphaEm3Abs(s[i]) <= tol*(plassmannWolfeNWAlphaEm3Abs(x[i])+1)) {
-			return false
-		}
+// plassmannWolfeNWAlphaEm3GradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func plassmannWolfeNWAlphaEm3GradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *plassmannWolfeNWAlphaEm3Differences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// plassmannWolfeNWAlphaEm3Settle prepares the final verdict at a stall: with differences it
-// confirms the gradient (plassmannWolfeNWAlphaEm3ConfirmGradient), then it adds to each error
-// bound the rounding floor of x (plassmannWolfeNWAlphaEm3RoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func plassmannWolfeNWAlphaEm3Settle(x *[1]float64, fx float64, g, e *[1]float64, diffs *plassmannWolfeNWAlphaEm3Differences, budget int) (int, bool) {
-	calls := 0
-	if plassmannWolfeNWAlphaEm3DerivativeCost > 0 {
-		spent, ok := plassmannWolfeNWAlphaEm3ConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// plassmannWolfeNWAlphaEm3Abs returns |v|.
+func plassmannWolfeNWAlphaEm3Abs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	plassmannWolfeNWAlphaEm3RoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // plassmannWolfeNWAlphaEm3RoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -582,6 +536,49 @@ func plassmannWolfeNWAlphaEm3ProbeStep(xi, h float64) (float64, float64) {
 // plassmannWolfeNWAlphaEm3SquareRoot returns √v.
 func plassmannWolfeNWAlphaEm3SquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// plassmannWolfeNWAlphaEm3Larger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func plassmannWolfeNWAlphaEm3Larger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// plassmannWolfeNWAlphaEm3GradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func plassmannWolfeNWAlphaEm3GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
+	scale := plassmannWolfeNWAlphaEm3Larger(plassmannWolfeNWAlphaEm3Abs(fx), 1)
+	for i := range g {
+		w := plassmannWolfeNWAlphaEm3Larger(plassmannWolfeNWAlphaEm3Abs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = plassmannWolfeNWAlphaEm3Larger(measure, (plassmannWolfeNWAlphaEm3Abs(g[i])+e[i])*w)
+		floor = plassmannWolfeNWAlphaEm3Larger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// plassmannWolfeNWAlphaEm3StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func plassmannWolfeNWAlphaEm3StepWithin(s, x *[1]float64, tol float64) bool {
+	for i := range s {
+		if !(plassmannWolfeNWAlphaEm3Abs(s[i]) <= tol*(plassmannWolfeNWAlphaEm3Abs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // plassmannWolfeNWAlphaEm3Dot returns aᵀb.

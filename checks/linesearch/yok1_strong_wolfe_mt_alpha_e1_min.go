@@ -190,11 +190,25 @@ func yok1StrongWolfeMTAlphaE1Minimize(x0 [1]float64, lim YOK1StrongWolfeMTAlphaE
 	t, slope := float64(yok1StrongWolfeMTAlphaE1StepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                          // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                                // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                   // whether g and e at x come from yok1StrongWolfeMTAlphaE1ConfirmGradient
+	confirmed := false                                                   // whether g and e at x come from yok1StrongWolfeMTAlphaE1ConfirmGradient or settle
 	stalled := false                                                     // whether the run can make no more progress at x
 	retried := -1                                                        // the iteration whose stall was retried with recalibrated differences
+	verify := yok1StrongWolfeMTAlphaE1VerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != yok1StrongWolfeMTAlphaE1VerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see yok1StrongWolfeMTAlphaE1ConfirmGradient and settle).
+			calls, ok := yok1StrongWolfeMTAlphaE1Settle(&x, fx, &g, &e, &diffs, verify == yok1StrongWolfeMTAlphaE1VerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(YOK1StrongWolfeMTAlphaE1OutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !yok1StrongWolfeMTAlphaE1FiniteVec(&g) {
+				return best.ending(YOK1StrongWolfeMTAlphaE1NonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = yok1StrongWolfeMTAlphaE1VerifyNothing, true
+		case !confirmed:
 			yok1StrongWolfeMTAlphaE1GradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := yok1StrongWolfeMTAlphaE1GradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func yok1StrongWolfeMTAlphaE1Minimize(x0 [1]float64, lim YOK1StrongWolfeMTAlphaE
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := yok1StrongWolfeMTAlphaE1ConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(YOK1StrongWolfeMTAlphaE1OutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !yok1StrongWolfeMTAlphaE1FiniteVec(&g) {
-				return best.ending(YOK1StrongWolfeMTAlphaE1NonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = yok1StrongWolfeMTAlphaE1VerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func yok1StrongWolfeMTAlphaE1Minimize(x0 [1]float64, lim YOK1StrongWolfeMTAlphaE
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if yok1StrongWolfeMTAlphaE1StepWithin(&s, &x, lim.Step) {
-				calls, ok := yok1StrongWolfeMTAlphaE1Settle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(YOK1StrongWolfeMTAlphaE1OutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !yok1StrongWolfeMTAlphaE1FiniteVec(&g) {
-					return best.ending(YOK1StrongWolfeMTAlphaE1NonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = yok1StrongWolfeMTAlphaE1VerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func yok1StrongWolfeMTAlphaE1Minimize(x0 [1]float64, lim YOK1StrongWolfeMTAlphaE
 			case found.rising:
 				end = YOK1StrongWolfeMTAlphaE1NoDecrease
 			case found.end == yok1StrongWolfeMTAlphaE1SearchTiny && canSettle:
-				calls, ok := yok1StrongWolfeMTAlphaE1Settle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(YOK1StrongWolfeMTAlphaE1OutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !yok1StrongWolfeMTAlphaE1FiniteVec(&g) {
-					return best.ending(YOK1StrongWolfeMTAlphaE1NonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = yok1StrongWolfeMTAlphaE1VerifyStall, true
 				continue
 			case found.end == yok1StrongWolfeMTAlphaE1SearchTiny:
 				end = YOK1StrongWolfeMTAlphaE1Stalled
@@ -436,51 +424,30 @@ func yok1StrongWolfeMTAlphaE1ScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
-// yok1StrongWolfeMTAlphaE1GradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func yok1StrongWolfeMTAlphaE1GradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *yok1StrongWolfeMTAlphaE1Differences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	yok1StrongWolfeMTAlphaE1VerifyNothing = iota
+	yok1StrongWolfeMTAlphaE1VerifyPass    // a difference gradient passed the test
+	yok1StrongWolfeMTAlphaE1VerifyStall   // no step makes progress
+)
 
-// yok1StrongWolfeMTAlphaE1GradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func yok1StrongWolfeMTAlphaE1GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
-	scale := yok1StrongWolfeMTAlphaE1Larger(yok1StrongWolfeMTAlphaE1Abs(fx), 1)
-	for i := range g {
-		w := yok1StrongWolfeMTAlphaE1Larger(yok1StrongWolfeMTAlphaE1Abs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = yok1StrongWolfeMTAlphaE1Larger(measure, (yok1StrongWolfeMTAlphaE1Abs(g[i])+e[i])*w)
-		floor = yok1StrongWolfeMTAlphaE1Larger(floor, e[i]*w)
+// yok1StrongWolfeMTAlphaE1Settle prepares a verdict at x: with differences it confirms the
+// gradient (yok1StrongWolfeMTAlphaE1ConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (yok1StrongWolfeMTAlphaE1RoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func yok1StrongWolfeMTAlphaE1Settle(x *[1]float64, fx float64, g, e *[1]float64, diffs *yok1StrongWolfeMTAlphaE1Differences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if yok1StrongWolfeMTAlphaE1DerivativeCost > 0 {
+		spent, ok := yok1StrongWolfeMTAlphaE1ConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// yok1StrongWolfeMTAlphaE1Larger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func yok1StrongWolfeMTAlphaE1Larger(a, b float64) float64 {
-	if a > b || a != a {
-		return a
+	if stall {
+		yok1StrongWolfeMTAlphaE1RoundingFloor(x, g, e, diffs)
 	}
-	return b
-}
-
-// yok1StrongWolfeMTAlphaE1Abs returns |v|.
-func yok1StrongWolfeMTAlphaE1Abs(v float64) float64 {
-	if v < 0 {
-		return -v
-	}
-	return v
+	return calls, true
 }
 
 // yok1StrongWolfeMTAlphaE1ConfirmGradient recomputes a difference gradient at x before the run is
@@ -513,33 +480,20 @@ func yok1StrongWolfeMTAlphaE1ConfirmGradient(x *[1]float64, fx float64, g, e *[1
 	return calls + 2*yok1StrongWolfeMTAlphaE1DerivativeCost, true
 }
 
-// yok1StrongWolfeMTAlphaE1StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func yok1StrongWolfeMTAlphaE1StepWithin(s, x *[1]float64, tol float64) bool {
-	for i := range s {
-		if !(yok1StrongWolfeMTAlphaE1Abs(s[i]) <= tol*(yok1StrongWolfeMTAlphaE1Abs(x[i])+1)) {
-			return false
-		}
+// yok1StrongWolfeMTAlphaE1GradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func yok1StrongWolfeMTAlphaE1GradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *yok1StrongWolfeMTAlphaE1Differences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// yok1StrongWolfeMTAlphaE1Settle prepares the final verdict at a stall: with differences it
-// confirms the gradient (yok1StrongWolfeMTAlphaE1ConfirmGradient), then it adds to each error
-// bound the rounding floor of x (yok1StrongWolfeMTAlphaE1RoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func yok1StrongWolfeMTAlphaE1Settle(x *[1]float64, fx float64, g, e *[1]float64, diffs *yok1StrongWolfeMTAlphaE1Differences, budget int) (int, bool) {
-	calls := 0
-	if yok1StrongWolfeMTAlphaE1DerivativeCost > 0 {
-		spent, ok := yok1StrongWolfeMTAlphaE1ConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// yok1StrongWolfeMTAlphaE1Abs returns |v|.
+func yok1StrongWolfeMTAlphaE1Abs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	yok1StrongWolfeMTAlphaE1RoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // yok1StrongWolfeMTAlphaE1RoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -582,6 +536,49 @@ func yok1StrongWolfeMTAlphaE1ProbeStep(xi, h float64) (float64, float64) {
 // yok1StrongWolfeMTAlphaE1SquareRoot returns √v.
 func yok1StrongWolfeMTAlphaE1SquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// yok1StrongWolfeMTAlphaE1Larger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func yok1StrongWolfeMTAlphaE1Larger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// yok1StrongWolfeMTAlphaE1GradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func yok1StrongWolfeMTAlphaE1GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
+	scale := yok1StrongWolfeMTAlphaE1Larger(yok1StrongWolfeMTAlphaE1Abs(fx), 1)
+	for i := range g {
+		w := yok1StrongWolfeMTAlphaE1Larger(yok1StrongWolfeMTAlphaE1Abs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = yok1StrongWolfeMTAlphaE1Larger(measure, (yok1StrongWolfeMTAlphaE1Abs(g[i])+e[i])*w)
+		floor = yok1StrongWolfeMTAlphaE1Larger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// yok1StrongWolfeMTAlphaE1StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func yok1StrongWolfeMTAlphaE1StepWithin(s, x *[1]float64, tol float64) bool {
+	for i := range s {
+		if !(yok1StrongWolfeMTAlphaE1Abs(s[i]) <= tol*(yok1StrongWolfeMTAlphaE1Abs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // yok1StrongWolfeMTAlphaE1Dot returns aᵀb.

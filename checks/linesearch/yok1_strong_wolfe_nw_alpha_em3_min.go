@@ -190,11 +190,25 @@ func yok1StrongWolfeNWAlphaEm3Minimize(x0 [1]float64, lim YOK1StrongWolfeNWAlpha
 	t, slope := float64(yok1StrongWolfeNWAlphaEm3StepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                           // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                                 // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                    // whether g and e at x come from yok1StrongWolfeNWAlphaEm3ConfirmGradient
+	confirmed := false                                                    // whether g and e at x come from yok1StrongWolfeNWAlphaEm3ConfirmGradient or settle
 	stalled := false                                                      // whether the run can make no more progress at x
 	retried := -1                                                         // the iteration whose stall was retried with recalibrated differences
+	verify := yok1StrongWolfeNWAlphaEm3VerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != yok1StrongWolfeNWAlphaEm3VerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see yok1StrongWolfeNWAlphaEm3ConfirmGradient and settle).
+			calls, ok := yok1StrongWolfeNWAlphaEm3Settle(&x, fx, &g, &e, &diffs, verify == yok1StrongWolfeNWAlphaEm3VerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(YOK1StrongWolfeNWAlphaEm3OutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !yok1StrongWolfeNWAlphaEm3FiniteVec(&g) {
+				return best.ending(YOK1StrongWolfeNWAlphaEm3NonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = yok1StrongWolfeNWAlphaEm3VerifyNothing, true
+		case !confirmed:
 			yok1StrongWolfeNWAlphaEm3GradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := yok1StrongWolfeNWAlphaEm3GradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func yok1StrongWolfeNWAlphaEm3Minimize(x0 [1]float64, lim YOK1StrongWolfeNWAlpha
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := yok1StrongWolfeNWAlphaEm3ConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(YOK1StrongWolfeNWAlphaEm3OutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !yok1StrongWolfeNWAlphaEm3FiniteVec(&g) {
-				return best.ending(YOK1StrongWolfeNWAlphaEm3NonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = yok1StrongWolfeNWAlphaEm3VerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func yok1StrongWolfeNWAlphaEm3Minimize(x0 [1]float64, lim YOK1StrongWolfeNWAlpha
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if yok1StrongWolfeNWAlphaEm3StepWithin(&s, &x, lim.Step) {
-				calls, ok := yok1StrongWolfeNWAlphaEm3Settle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(YOK1StrongWolfeNWAlphaEm3OutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !yok1StrongWolfeNWAlphaEm3FiniteVec(&g) {
-					return best.ending(YOK1StrongWolfeNWAlphaEm3NonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = yok1StrongWolfeNWAlphaEm3VerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func yok1StrongWolfeNWAlphaEm3Minimize(x0 [1]float64, lim YOK1StrongWolfeNWAlpha
 			case found.rising:
 				end = YOK1StrongWolfeNWAlphaEm3NoDecrease
 			case found.end == yok1StrongWolfeNWAlphaEm3SearchTiny && canSettle:
-				calls, ok := yok1StrongWolfeNWAlphaEm3Settle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(YOK1StrongWolfeNWAlphaEm3OutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !yok1StrongWolfeNWAlphaEm3FiniteVec(&g) {
-					return best.ending(YOK1StrongWolfeNWAlphaEm3NonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = yok1StrongWolfeNWAlphaEm3VerifyStall, true
 				continue
 			case found.end == yok1StrongWolfeNWAlphaEm3SearchTiny:
 				end = YOK1StrongWolfeNWAlphaEm3Stalled
@@ -436,51 +424,30 @@ func yok1StrongWolfeNWAlphaEm3ScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
-// yok1StrongWolfeNWAlphaEm3GradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func yok1StrongWolfeNWAlphaEm3GradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *yok1StrongWolfeNWAlphaEm3Differences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	yok1StrongWolfeNWAlphaEm3VerifyNothing = iota
+	yok1StrongWolfeNWAlphaEm3VerifyPass    // a difference gradient passed the test
+	yok1StrongWolfeNWAlphaEm3VerifyStall   // no step makes progress
+)
 
-// yok1StrongWolfeNWAlphaEm3GradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func yok1StrongWolfeNWAlphaEm3GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
-	scale := yok1StrongWolfeNWAlphaEm3Larger(yok1StrongWolfeNWAlphaEm3Abs(fx), 1)
-	for i := range g {
-		w := yok1StrongWolfeNWAlphaEm3Larger(yok1StrongWolfeNWAlphaEm3Abs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = yok1StrongWolfeNWAlphaEm3Larger(measure, (yok1StrongWolfeNWAlphaEm3Abs(g[i])+e[i])*w)
-		floor = yok1StrongWolfeNWAlphaEm3Larger(floor, e[i]*w)
+// yok1StrongWolfeNWAlphaEm3Settle prepares a verdict at x: with differences it confirms the
+// gradient (yok1StrongWolfeNWAlphaEm3ConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (yok1StrongWolfeNWAlphaEm3RoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func yok1StrongWolfeNWAlphaEm3Settle(x *[1]float64, fx float64, g, e *[1]float64, diffs *yok1StrongWolfeNWAlphaEm3Differences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if yok1StrongWolfeNWAlphaEm3DerivativeCost > 0 {
+		spent, ok := yok1StrongWolfeNWAlphaEm3ConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// yok1StrongWolfeNWAlphaEm3Larger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func yok1StrongWolfeNWAlphaEm3Larger(a, b float64) float64 {
-	if a > b || a != a {
-		return a
+	if stall {
+		yok1StrongWolfeNWAlphaEm3RoundingFloor(x, g, e, diffs)
 	}
-	return b
-}
-
-// yok1StrongWolfeNWAlphaEm3Abs returns |v|.
-func yok1StrongWolfeNWAlphaEm3Abs(v float64) float64 {
-	if v < 0 {
-		return -v
-	}
-	return v
+	return calls, true
 }
 
 // yok1StrongWolfeNWAlphaEm3ConfirmGradient recomputes a difference gradient at x before the run is
@@ -513,33 +480,20 @@ func yok1StrongWolfeNWAlphaEm3ConfirmGradient(x *[1]float64, fx float64, g, e *[
 	return calls + 2*yok1StrongWolfeNWAlphaEm3DerivativeCost, true
 }
 
-// yok1StrongWolfeNWAlphaEm3StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func yok1StrongWolfeNWAlphaEm3StepWithin(s, x *[1]float64, tol float64) bool {
-	for i := range s {
-		if !(yok1StrongWolfeNWAlphaEm3Abs(s[i]) <= tol*(yok1StrongWolfeNWAlphaEm3Abs(x[i])+1)) {
-			return false
-		}
+// yok1StrongWolfeNWAlphaEm3GradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func yok1StrongWolfeNWAlphaEm3GradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *yok1StrongWolfeNWAlphaEm3Differences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// yok1StrongWolfeNWAlphaEm3Settle prepares the final verdict at a stall: with differences it
-// confirms the gradient (yok1StrongWolfeNWAlphaEm3ConfirmGradient), then it adds to each error
-// bound the rounding floor of x (yok1StrongWolfeNWAlphaEm3RoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func yok1StrongWolfeNWAlphaEm3Settle(x *[1]float64, fx float64, g, e *[1]float64, diffs *yok1StrongWolfeNWAlphaEm3Differences, budget int) (int, bool) {
-	calls := 0
-	if yok1StrongWolfeNWAlphaEm3DerivativeCost > 0 {
-		spent, ok := yok1StrongWolfeNWAlphaEm3ConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// yok1StrongWolfeNWAlphaEm3Abs returns |v|.
+func yok1StrongWolfeNWAlphaEm3Abs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	yok1StrongWolfeNWAlphaEm3RoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // yok1StrongWolfeNWAlphaEm3RoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -582,6 +536,49 @@ func yok1StrongWolfeNWAlphaEm3ProbeStep(xi, h float64) (float64, float64) {
 // yok1StrongWolfeNWAlphaEm3SquareRoot returns √v.
 func yok1StrongWolfeNWAlphaEm3SquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// yok1StrongWolfeNWAlphaEm3Larger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func yok1StrongWolfeNWAlphaEm3Larger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// yok1StrongWolfeNWAlphaEm3GradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func yok1StrongWolfeNWAlphaEm3GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
+	scale := yok1StrongWolfeNWAlphaEm3Larger(yok1StrongWolfeNWAlphaEm3Abs(fx), 1)
+	for i := range g {
+		w := yok1StrongWolfeNWAlphaEm3Larger(yok1StrongWolfeNWAlphaEm3Abs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = yok1StrongWolfeNWAlphaEm3Larger(measure, (yok1StrongWolfeNWAlphaEm3Abs(g[i])+e[i])*w)
+		floor = yok1StrongWolfeNWAlphaEm3Larger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// yok1StrongWolfeNWAlphaEm3StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func yok1StrongWolfeNWAlphaEm3StepWithin(s, x *[1]float64, tol float64) bool {
+	for i := range s {
+		if !(yok1StrongWolfeNWAlphaEm3Abs(s[i]) <= tol*(yok1StrongWolfeNWAlphaEm3Abs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // yok1StrongWolfeNWAlphaEm3Dot returns aᵀb.

@@ -190,11 +190,25 @@ func yok2WolfeMTAlphaEm3Minimize(x0 [1]float64, lim YOK2WolfeMTAlphaEm3Limits) y
 	t, slope := float64(yok2WolfeMTAlphaEm3StepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                     // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                           // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                              // whether g and e at x come from yok2WolfeMTAlphaEm3ConfirmGradient
+	confirmed := false                                              // whether g and e at x come from yok2WolfeMTAlphaEm3ConfirmGradient or settle
 	stalled := false                                                // whether the run can make no more progress at x
 	retried := -1                                                   // the iteration whose stall was retried with recalibrated differences
+	verify := yok2WolfeMTAlphaEm3VerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != yok2WolfeMTAlphaEm3VerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see yok2WolfeMTAlphaEm3ConfirmGradient and settle).
+			calls, ok := yok2WolfeMTAlphaEm3Settle(&x, fx, &g, &e, &diffs, verify == yok2WolfeMTAlphaEm3VerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(YOK2WolfeMTAlphaEm3OutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !yok2WolfeMTAlphaEm3FiniteVec(&g) {
+				return best.ending(YOK2WolfeMTAlphaEm3NonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = yok2WolfeMTAlphaEm3VerifyNothing, true
+		case !confirmed:
 			yok2WolfeMTAlphaEm3GradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := yok2WolfeMTAlphaEm3GradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func yok2WolfeMTAlphaEm3Minimize(x0 [1]float64, lim YOK2WolfeMTAlphaEm3Limits) y
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := yok2WolfeMTAlphaEm3ConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(YOK2WolfeMTAlphaEm3OutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !yok2WolfeMTAlphaEm3FiniteVec(&g) {
-				return best.ending(YOK2WolfeMTAlphaEm3NonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = yok2WolfeMTAlphaEm3VerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func yok2WolfeMTAlphaEm3Minimize(x0 [1]float64, lim YOK2WolfeMTAlphaEm3Limits) y
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if yok2WolfeMTAlphaEm3StepWithin(&s, &x, lim.Step) {
-				calls, ok := yok2WolfeMTAlphaEm3Settle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(YOK2WolfeMTAlphaEm3OutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !yok2WolfeMTAlphaEm3FiniteVec(&g) {
-					return best.ending(YOK2WolfeMTAlphaEm3NonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = yok2WolfeMTAlphaEm3VerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func yok2WolfeMTAlphaEm3Minimize(x0 [1]float64, lim YOK2WolfeMTAlphaEm3Limits) y
 			case found.rising:
 				end = YOK2WolfeMTAlphaEm3NoDecrease
 			case found.end == yok2WolfeMTAlphaEm3SearchTiny && canSettle:
-				calls, ok := yok2WolfeMTAlphaEm3Settle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(YOK2WolfeMTAlphaEm3OutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !yok2WolfeMTAlphaEm3FiniteVec(&g) {
-					return best.ending(YOK2WolfeMTAlphaEm3NonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = yok2WolfeMTAlphaEm3VerifyStall, true
 				continue
 			case found.end == yok2WolfeMTAlphaEm3SearchTiny:
 				end = YOK2WolfeMTAlphaEm3Stalled
@@ -436,51 +424,30 @@ func yok2WolfeMTAlphaEm3ScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
-// yok2WolfeMTAlphaEm3GradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func yok2WolfeMTAlphaEm3GradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *yok2WolfeMTAlphaEm3Differences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	yok2WolfeMTAlphaEm3VerifyNothing = iota
+	yok2WolfeMTAlphaEm3VerifyPass    // a difference gradient passed the test
+	yok2WolfeMTAlphaEm3VerifyStall   // no step makes progress
+)
 
-// yok2WolfeMTAlphaEm3GradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func yok2WolfeMTAlphaEm3GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
-	scale := yok2WolfeMTAlphaEm3Larger(yok2WolfeMTAlphaEm3Abs(fx), 1)
-	for i := range g {
-		w := yok2WolfeMTAlphaEm3Larger(yok2WolfeMTAlphaEm3Abs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = yok2WolfeMTAlphaEm3Larger(measure, (yok2WolfeMTAlphaEm3Abs(g[i])+e[i])*w)
-		floor = yok2WolfeMTAlphaEm3Larger(floor, e[i]*w)
+// yok2WolfeMTAlphaEm3Settle prepares a verdict at x: with differences it confirms the
+// gradient (yok2WolfeMTAlphaEm3ConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (yok2WolfeMTAlphaEm3RoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func yok2WolfeMTAlphaEm3Settle(x *[1]float64, fx float64, g, e *[1]float64, diffs *yok2WolfeMTAlphaEm3Differences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if yok2WolfeMTAlphaEm3DerivativeCost > 0 {
+		spent, ok := yok2WolfeMTAlphaEm3ConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// yok2WolfeMTAlphaEm3Larger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func yok2WolfeMTAlphaEm3Larger(a, b float64) float64 {
-	if a > b || a != a {
-		return a
+	if stall {
+		yok2WolfeMTAlphaEm3RoundingFloor(x, g, e, diffs)
 	}
-	return b
-}
-
-// yok2WolfeMTAlphaEm3Abs returns |v|.
-func yok2WolfeMTAlphaEm3Abs(v float64) float64 {
-	if v < 0 {
-		return -v
-	}
-	return v
+	return calls, true
 }
 
 // yok2WolfeMTAlphaEm3ConfirmGradient recomputes a difference gradient at x before the run is
@@ -513,33 +480,20 @@ func yok2WolfeMTAlphaEm3ConfirmGradient(x *[1]float64, fx float64, g, e *[1]floa
 	return calls + 2*yok2WolfeMTAlphaEm3DerivativeCost, true
 }
 
-// yok2WolfeMTAlphaEm3StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func yok2WolfeMTAlphaEm3StepWithin(s, x *[1]float64, tol float64) bool {
-	for i := range s {
-		if !(yok2WolfeMTAlphaEm3Abs(s[i]) <= tol*(yok2WolfeMTAlphaEm3Abs(x[i])+1)) {
-			return false
-		}
+// yok2WolfeMTAlphaEm3GradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func yok2WolfeMTAlphaEm3GradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *yok2WolfeMTAlphaEm3Differences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// yok2WolfeMTAlphaEm3Settle prepares the final verdict at a stall: with differences it
-// confirms the gradient (yok2WolfeMTAlphaEm3ConfirmGradient), then it adds to each error
-// bound the rounding floor of x (yok2WolfeMTAlphaEm3RoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func yok2WolfeMTAlphaEm3Settle(x *[1]float64, fx float64, g, e *[1]float64, diffs *yok2WolfeMTAlphaEm3Differences, budget int) (int, bool) {
-	calls := 0
-	if yok2WolfeMTAlphaEm3DerivativeCost > 0 {
-		spent, ok := yok2WolfeMTAlphaEm3ConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// yok2WolfeMTAlphaEm3Abs returns |v|.
+func yok2WolfeMTAlphaEm3Abs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	yok2WolfeMTAlphaEm3RoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // yok2WolfeMTAlphaEm3RoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -582,6 +536,49 @@ func yok2WolfeMTAlphaEm3ProbeStep(xi, h float64) (float64, float64) {
 // yok2WolfeMTAlphaEm3SquareRoot returns √v.
 func yok2WolfeMTAlphaEm3SquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// yok2WolfeMTAlphaEm3Larger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func yok2WolfeMTAlphaEm3Larger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// yok2WolfeMTAlphaEm3GradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func yok2WolfeMTAlphaEm3GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
+	scale := yok2WolfeMTAlphaEm3Larger(yok2WolfeMTAlphaEm3Abs(fx), 1)
+	for i := range g {
+		w := yok2WolfeMTAlphaEm3Larger(yok2WolfeMTAlphaEm3Abs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = yok2WolfeMTAlphaEm3Larger(measure, (yok2WolfeMTAlphaEm3Abs(g[i])+e[i])*w)
+		floor = yok2WolfeMTAlphaEm3Larger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// yok2WolfeMTAlphaEm3StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func yok2WolfeMTAlphaEm3StepWithin(s, x *[1]float64, tol float64) bool {
+	for i := range s {
+		if !(yok2WolfeMTAlphaEm3Abs(s[i]) <= tol*(yok2WolfeMTAlphaEm3Abs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // yok2WolfeMTAlphaEm3Dot returns aᵀb.

@@ -190,11 +190,25 @@ func yok2WolfeNWAlphaE1Minimize(x0 [1]float64, lim YOK2WolfeNWAlphaE1Limits) yok
 	t, slope := float64(yok2WolfeNWAlphaE1StepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                    // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                          // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                             // whether g and e at x come from yok2WolfeNWAlphaE1ConfirmGradient
+	confirmed := false                                             // whether g and e at x come from yok2WolfeNWAlphaE1ConfirmGradient or settle
 	stalled := false                                               // whether the run can make no more progress at x
 	retried := -1                                                  // the iteration whose stall was retried with recalibrated differences
+	verify := yok2WolfeNWAlphaE1VerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != yok2WolfeNWAlphaE1VerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see yok2WolfeNWAlphaE1ConfirmGradient and settle).
+			calls, ok := yok2WolfeNWAlphaE1Settle(&x, fx, &g, &e, &diffs, verify == yok2WolfeNWAlphaE1VerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(YOK2WolfeNWAlphaE1OutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !yok2WolfeNWAlphaE1FiniteVec(&g) {
+				return best.ending(YOK2WolfeNWAlphaE1NonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = yok2WolfeNWAlphaE1VerifyNothing, true
+		case !confirmed:
 			yok2WolfeNWAlphaE1GradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := yok2WolfeNWAlphaE1GradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func yok2WolfeNWAlphaE1Minimize(x0 [1]float64, lim YOK2WolfeNWAlphaE1Limits) yok
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := yok2WolfeNWAlphaE1ConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(YOK2WolfeNWAlphaE1OutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !yok2WolfeNWAlphaE1FiniteVec(&g) {
-				return best.ending(YOK2WolfeNWAlphaE1NonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = yok2WolfeNWAlphaE1VerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func yok2WolfeNWAlphaE1Minimize(x0 [1]float64, lim YOK2WolfeNWAlphaE1Limits) yok
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if yok2WolfeNWAlphaE1StepWithin(&s, &x, lim.Step) {
-				calls, ok := yok2WolfeNWAlphaE1Settle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(YOK2WolfeNWAlphaE1OutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !yok2WolfeNWAlphaE1FiniteVec(&g) {
-					return best.ending(YOK2WolfeNWAlphaE1NonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = yok2WolfeNWAlphaE1VerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func yok2WolfeNWAlphaE1Minimize(x0 [1]float64, lim YOK2WolfeNWAlphaE1Limits) yok
 			case found.rising:
 				end = YOK2WolfeNWAlphaE1NoDecrease
 			case found.end == yok2WolfeNWAlphaE1SearchTiny && canSettle:
-				calls, ok := yok2WolfeNWAlphaE1Settle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(YOK2WolfeNWAlphaE1OutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !yok2WolfeNWAlphaE1FiniteVec(&g) {
-					return best.ending(YOK2WolfeNWAlphaE1NonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = yok2WolfeNWAlphaE1VerifyStall, true
 				continue
 			case found.end == yok2WolfeNWAlphaE1SearchTiny:
 				end = YOK2WolfeNWAlphaE1Stalled
@@ -436,51 +424,30 @@ func yok2WolfeNWAlphaE1ScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
-// yok2WolfeNWAlphaE1GradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func yok2WolfeNWAlphaE1GradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *yok2WolfeNWAlphaE1Differences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	yok2WolfeNWAlphaE1VerifyNothing = iota
+	yok2WolfeNWAlphaE1VerifyPass    // a difference gradient passed the test
+	yok2WolfeNWAlphaE1VerifyStall   // no step makes progress
+)
 
-// yok2WolfeNWAlphaE1GradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func yok2WolfeNWAlphaE1GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
-	scale := yok2WolfeNWAlphaE1Larger(yok2WolfeNWAlphaE1Abs(fx), 1)
-	for i := range g {
-		w := yok2WolfeNWAlphaE1Larger(yok2WolfeNWAlphaE1Abs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = yok2WolfeNWAlphaE1Larger(measure, (yok2WolfeNWAlphaE1Abs(g[i])+e[i])*w)
-		floor = yok2WolfeNWAlphaE1Larger(floor, e[i]*w)
+// yok2WolfeNWAlphaE1Settle prepares a verdict at x: with differences it confirms the
+// gradient (yok2WolfeNWAlphaE1ConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (yok2WolfeNWAlphaE1RoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func yok2WolfeNWAlphaE1Settle(x *[1]float64, fx float64, g, e *[1]float64, diffs *yok2WolfeNWAlphaE1Differences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if yok2WolfeNWAlphaE1DerivativeCost > 0 {
+		spent, ok := yok2WolfeNWAlphaE1ConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// yok2WolfeNWAlphaE1Larger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func yok2WolfeNWAlphaE1Larger(a, b float64) float64 {
-	if a > b || a != a {
-		return a
+	if stall {
+		yok2WolfeNWAlphaE1RoundingFloor(x, g, e, diffs)
 	}
-	return b
-}
-
-// yok2WolfeNWAlphaE1Abs returns |v|.
-func yok2WolfeNWAlphaE1Abs(v float64) float64 {
-	if v < 0 {
-		return -v
-	}
-	return v
+	return calls, true
 }
 
 // yok2WolfeNWAlphaE1ConfirmGradient recomputes a difference gradient at x before the run is
@@ -513,33 +480,20 @@ func yok2WolfeNWAlphaE1ConfirmGradient(x *[1]float64, fx float64, g, e *[1]float
 	return calls + 2*yok2WolfeNWAlphaE1DerivativeCost, true
 }
 
-// yok2WolfeNWAlphaE1StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func yok2WolfeNWAlphaE1StepWithin(s, x *[1]float64, tol float64) bool {
-	for i := range s {
-		if !(yok2WolfeNWAlphaE1Abs(s[i]) <= tol*(yok2WolfeNWAlphaE1Abs(x[i])+1)) {
-			return false
-		}
+// yok2WolfeNWAlphaE1GradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func yok2WolfeNWAlphaE1GradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *yok2WolfeNWAlphaE1Differences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// yok2WolfeNWAlphaE1Settle prepares the final verdict at a stall: with differences it
-// confirms the gradient (yok2WolfeNWAlphaE1ConfirmGradient), then it adds to each error
-// bound the rounding floor of x (yok2WolfeNWAlphaE1RoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func yok2WolfeNWAlphaE1Settle(x *[1]float64, fx float64, g, e *[1]float64, diffs *yok2WolfeNWAlphaE1Differences, budget int) (int, bool) {
-	calls := 0
-	if yok2WolfeNWAlphaE1DerivativeCost > 0 {
-		spent, ok := yok2WolfeNWAlphaE1ConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// yok2WolfeNWAlphaE1Abs returns |v|.
+func yok2WolfeNWAlphaE1Abs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	yok2WolfeNWAlphaE1RoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // yok2WolfeNWAlphaE1RoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -582,6 +536,49 @@ func yok2WolfeNWAlphaE1ProbeStep(xi, h float64) (float64, float64) {
 // yok2WolfeNWAlphaE1SquareRoot returns √v.
 func yok2WolfeNWAlphaE1SquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// yok2WolfeNWAlphaE1Larger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func yok2WolfeNWAlphaE1Larger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// yok2WolfeNWAlphaE1GradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func yok2WolfeNWAlphaE1GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
+	scale := yok2WolfeNWAlphaE1Larger(yok2WolfeNWAlphaE1Abs(fx), 1)
+	for i := range g {
+		w := yok2WolfeNWAlphaE1Larger(yok2WolfeNWAlphaE1Abs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = yok2WolfeNWAlphaE1Larger(measure, (yok2WolfeNWAlphaE1Abs(g[i])+e[i])*w)
+		floor = yok2WolfeNWAlphaE1Larger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// yok2WolfeNWAlphaE1StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func yok2WolfeNWAlphaE1StepWithin(s, x *[1]float64, tol float64) bool {
+	for i := range s {
+		if !(yok2WolfeNWAlphaE1Abs(s[i]) <= tol*(yok2WolfeNWAlphaE1Abs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // yok2WolfeNWAlphaE1Dot returns aᵀb.

@@ -190,11 +190,25 @@ func yok3StrongWolfeNWAlphaE1Minimize(x0 [1]float64, lim YOK3StrongWolfeNWAlphaE
 	t, slope := float64(yok3StrongWolfeNWAlphaE1StepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                          // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                                // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                   // whether g and e at x come from yok3StrongWolfeNWAlphaE1ConfirmGradient
+	confirmed := false                                                   // whether g and e at x come from yok3StrongWolfeNWAlphaE1ConfirmGradient or settle
 	stalled := false                                                     // whether the run can make no more progress at x
 	retried := -1                                                        // the iteration whose stall was retried with recalibrated differences
+	verify := yok3StrongWolfeNWAlphaE1VerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != yok3StrongWolfeNWAlphaE1VerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see yok3StrongWolfeNWAlphaE1ConfirmGradient and settle).
+			calls, ok := yok3StrongWolfeNWAlphaE1Settle(&x, fx, &g, &e, &diffs, verify == yok3StrongWolfeNWAlphaE1VerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(YOK3StrongWolfeNWAlphaE1OutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !yok3StrongWolfeNWAlphaE1FiniteVec(&g) {
+				return best.ending(YOK3StrongWolfeNWAlphaE1NonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = yok3StrongWolfeNWAlphaE1VerifyNothing, true
+		case !confirmed:
 			yok3StrongWolfeNWAlphaE1GradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := yok3StrongWolfeNWAlphaE1GradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func yok3StrongWolfeNWAlphaE1Minimize(x0 [1]float64, lim YOK3StrongWolfeNWAlphaE
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := yok3StrongWolfeNWAlphaE1ConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(YOK3StrongWolfeNWAlphaE1OutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !yok3StrongWolfeNWAlphaE1FiniteVec(&g) {
-				return best.ending(YOK3StrongWolfeNWAlphaE1NonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = yok3StrongWolfeNWAlphaE1VerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func yok3StrongWolfeNWAlphaE1Minimize(x0 [1]float64, lim YOK3StrongWolfeNWAlphaE
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if yok3StrongWolfeNWAlphaE1StepWithin(&s, &x, lim.Step) {
-				calls, ok := yok3StrongWolfeNWAlphaE1Settle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(YOK3StrongWolfeNWAlphaE1OutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !yok3StrongWolfeNWAlphaE1FiniteVec(&g) {
-					return best.ending(YOK3StrongWolfeNWAlphaE1NonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = yok3StrongWolfeNWAlphaE1VerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func yok3StrongWolfeNWAlphaE1Minimize(x0 [1]float64, lim YOK3StrongWolfeNWAlphaE
 			case found.rising:
 				end = YOK3StrongWolfeNWAlphaE1NoDecrease
 			case found.end == yok3StrongWolfeNWAlphaE1SearchTiny && canSettle:
-				calls, ok := yok3StrongWolfeNWAlphaE1Settle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(YOK3StrongWolfeNWAlphaE1OutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !yok3StrongWolfeNWAlphaE1FiniteVec(&g) {
-					return best.ending(YOK3StrongWolfeNWAlphaE1NonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = yok3StrongWolfeNWAlphaE1VerifyStall, true
 				continue
 			case found.end == yok3StrongWolfeNWAlphaE1SearchTiny:
 				end = YOK3StrongWolfeNWAlphaE1Stalled
@@ -436,51 +424,30 @@ func yok3StrongWolfeNWAlphaE1ScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
-// yok3StrongWolfeNWAlphaE1GradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func yok3StrongWolfeNWAlphaE1GradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *yok3StrongWolfeNWAlphaE1Differences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	yok3StrongWolfeNWAlphaE1VerifyNothing = iota
+	yok3StrongWolfeNWAlphaE1VerifyPass    // a difference gradient passed the test
+	yok3StrongWolfeNWAlphaE1VerifyStall   // no step makes progress
+)
 
-// yok3StrongWolfeNWAlphaE1GradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func yok3StrongWolfeNWAlphaE1GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
-	scale := yok3StrongWolfeNWAlphaE1Larger(yok3StrongWolfeNWAlphaE1Abs(fx), 1)
-	for i := range g {
-		w := yok3StrongWolfeNWAlphaE1Larger(yok3StrongWolfeNWAlphaE1Abs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = yok3StrongWolfeNWAlphaE1Larger(measure, (yok3StrongWolfeNWAlphaE1Abs(g[i])+e[i])*w)
-		floor = yok3StrongWolfeNWAlphaE1Larger(floor, e[i]*w)
+// yok3StrongWolfeNWAlphaE1Settle prepares a verdict at x: with differences it confirms the
+// gradient (yok3StrongWolfeNWAlphaE1ConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (yok3StrongWolfeNWAlphaE1RoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func yok3StrongWolfeNWAlphaE1Settle(x *[1]float64, fx float64, g, e *[1]float64, diffs *yok3StrongWolfeNWAlphaE1Differences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if yok3StrongWolfeNWAlphaE1DerivativeCost > 0 {
+		spent, ok := yok3StrongWolfeNWAlphaE1ConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// yok3StrongWolfeNWAlphaE1Larger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func yok3StrongWolfeNWAlphaE1Larger(a, b float64) float64 {
-	if a > b || a != a {
-		return a
+	if stall {
+		yok3StrongWolfeNWAlphaE1RoundingFloor(x, g, e, diffs)
 	}
-	return b
-}
-
-// yok3StrongWolfeNWAlphaE1Abs returns |v|.
-func yok3StrongWolfeNWAlphaE1Abs(v float64) float64 {
-	if v < 0 {
-		return -v
-	}
-	return v
+	return calls, true
 }
 
 // yok3StrongWolfeNWAlphaE1ConfirmGradient recomputes a difference gradient at x before the run is
@@ -513,33 +480,20 @@ func yok3StrongWolfeNWAlphaE1ConfirmGradient(x *[1]float64, fx float64, g, e *[1
 	return calls + 2*yok3StrongWolfeNWAlphaE1DerivativeCost, true
 }
 
-// yok3StrongWolfeNWAlphaE1StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func yok3StrongWolfeNWAlphaE1StepWithin(s, x *[1]float64, tol float64) bool {
-	for i := range s {
-		if !(yok3StrongWolfeNWAlphaE1Abs(s[i]) <= tol*(yok3StrongWolfeNWAlphaE1Abs(x[i])+1)) {
-			return false
-		}
+// yok3StrongWolfeNWAlphaE1GradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func yok3StrongWolfeNWAlphaE1GradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *yok3StrongWolfeNWAlphaE1Differences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// yok3StrongWolfeNWAlphaE1Settle prepares the final verdict at a stall: with differences it
-// confirms the gradient (yok3StrongWolfeNWAlphaE1ConfirmGradient), then it adds to each error
-// bound the rounding floor of x (yok3StrongWolfeNWAlphaE1RoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func yok3StrongWolfeNWAlphaE1Settle(x *[1]float64, fx float64, g, e *[1]float64, diffs *yok3StrongWolfeNWAlphaE1Differences, budget int) (int, bool) {
-	calls := 0
-	if yok3StrongWolfeNWAlphaE1DerivativeCost > 0 {
-		spent, ok := yok3StrongWolfeNWAlphaE1ConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// yok3StrongWolfeNWAlphaE1Abs returns |v|.
+func yok3StrongWolfeNWAlphaE1Abs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	yok3StrongWolfeNWAlphaE1RoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // yok3StrongWolfeNWAlphaE1RoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -582,6 +536,49 @@ func yok3StrongWolfeNWAlphaE1ProbeStep(xi, h float64) (float64, float64) {
 // yok3StrongWolfeNWAlphaE1SquareRoot returns √v.
 func yok3StrongWolfeNWAlphaE1SquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// yok3StrongWolfeNWAlphaE1Larger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func yok3StrongWolfeNWAlphaE1Larger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// yok3StrongWolfeNWAlphaE1GradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func yok3StrongWolfeNWAlphaE1GradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
+	scale := yok3StrongWolfeNWAlphaE1Larger(yok3StrongWolfeNWAlphaE1Abs(fx), 1)
+	for i := range g {
+		w := yok3StrongWolfeNWAlphaE1Larger(yok3StrongWolfeNWAlphaE1Abs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = yok3StrongWolfeNWAlphaE1Larger(measure, (yok3StrongWolfeNWAlphaE1Abs(g[i])+e[i])*w)
+		floor = yok3StrongWolfeNWAlphaE1Larger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// yok3StrongWolfeNWAlphaE1StepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func yok3StrongWolfeNWAlphaE1StepWithin(s, x *[1]float64, tol float64) bool {
+	for i := range s {
+		if !(yok3StrongWolfeNWAlphaE1Abs(s[i]) <= tol*(yok3StrongWolfeNWAlphaE1Abs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // yok3StrongWolfeNWAlphaE1Dot returns aᵀb.

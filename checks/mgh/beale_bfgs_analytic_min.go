@@ -190,11 +190,25 @@ func bealeBFGSAnalyticMinimize(x0 [2]float64, lim BealeBFGSAnalyticLimits) beale
 	t, slope := float64(bealeBFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                   // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                         // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                            // whether g and e at x come from bealeBFGSAnalyticConfirmGradient
+	confirmed := false                                            // whether g and e at x come from bealeBFGSAnalyticConfirmGradient or settle
 	stalled := false                                              // whether the run can make no more progress at x
 	retried := -1                                                 // the iteration whose stall was retried with recalibrated differences
+	verify := bealeBFGSAnalyticVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != bealeBFGSAnalyticVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see bealeBFGSAnalyticConfirmGradient and settle).
+			calls, ok := bealeBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, verify == bealeBFGSAnalyticVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(BealeBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !bealeBFGSAnalyticFiniteVec(&g) {
+				return best.ending(BealeBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = bealeBFGSAnalyticVerifyNothing, true
+		case !confirmed:
 			bealeBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := bealeBFGSAnalyticGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func bealeBFGSAnalyticMinimize(x0 [2]float64, lim BealeBFGSAnalyticLimits) beale
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := bealeBFGSAnalyticConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(BealeBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !bealeBFGSAnalyticFiniteVec(&g) {
-				return best.ending(BealeBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = bealeBFGSAnalyticVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func bealeBFGSAnalyticMinimize(x0 [2]float64, lim BealeBFGSAnalyticLimits) beale
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if bealeBFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				calls, ok := bealeBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(BealeBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !bealeBFGSAnalyticFiniteVec(&g) {
-					return best.ending(BealeBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = bealeBFGSAnalyticVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func bealeBFGSAnalyticMinimize(x0 [2]float64, lim BealeBFGSAnalyticLimits) beale
 			case found.rising:
 				end = BealeBFGSAnalyticNoDecrease
 			case found.end == bealeBFGSAnalyticSearchTiny && canSettle:
-				calls, ok := bealeBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(BealeBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !bealeBFGSAnalyticFiniteVec(&g) {
-					return best.ending(BealeBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = bealeBFGSAnalyticVerifyStall, true
 				continue
 			case found.end == bealeBFGSAnalyticSearchTiny:
 				end = BealeBFGSAnalyticStalled
@@ -490,51 +478,30 @@ func bealeBFGSAnalyticCurvatureSafe(s, y *[2]float64) bool {
 	return sy > 0 && (sy/bealeBFGSAnalyticDot(s, s))*(sy/bealeBFGSAnalyticDot(y, y)) > bealeBFGSAnalyticUnitRoundoff
 }
 
-// bealeBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func bealeBFGSAnalyticGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *bealeBFGSAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	bealeBFGSAnalyticVerifyNothing = iota
+	bealeBFGSAnalyticVerifyPass    // a difference gradient passed the test
+	bealeBFGSAnalyticVerifyStall   // no step makes progress
+)
 
-// bealeBFGSAnalyticGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func bealeBFGSAnalyticGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
-	scale := bealeBFGSAnalyticLarger(bealeBFGSAnalyticAbs(fx), 1)
-	for i := range g {
-		w := bealeBFGSAnalyticLarger(bealeBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = bealeBFGSAnalyticLarger(measure, (bealeBFGSAnalyticAbs(g[i])+e[i])*w)
-		floor = bealeBFGSAnalyticLarger(floor, e[i]*w)
+// bealeBFGSAnalyticSettle prepares a verdict at x: with differences it confirms the
+// gradient (bealeBFGSAnalyticConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (bealeBFGSAnalyticRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func bealeBFGSAnalyticSettle(x *[2]float64, fx float64, g, e *[2]float64, diffs *bealeBFGSAnalyticDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if bealeBFGSAnalyticDerivativeCost > 0 {
+		spent, ok := bealeBFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// bealeBFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func bealeBFGSAnalyticLarger(a, b float64) float64 {
-	if a > b || a != a {
-		return a
+	if stall {
+		bealeBFGSAnalyticRoundingFloor(x, g, e, diffs)
 	}
-	return b
-}
-
-// bealeBFGSAnalyticAbs returns |v|.
-func bealeBFGSAnalyticAbs(v float64) float64 {
-	if v < 0 {
-		return -v
-	}
-	return v
+	return calls, true
 }
 
 // bealeBFGSAnalyticConfirmGradient recomputes a difference gradient at x before the run is
@@ -567,33 +534,20 @@ func bealeBFGSAnalyticConfirmGradient(x *[2]float64, fx float64, g, e *[2]float6
 	return calls + 2*bealeBFGSAnalyticDerivativeCost, true
 }
 
-// bealeBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func bealeBFGSAnalyticStepWithin(s, x *[2]float64, tol float64) bool {
-	for i := range s {
-		if !(bealeBFGSAnalyticAbs(s[i]) <= tol*(bealeBFGSAnalyticAbs(x[i])+1)) {
-			return false
-		}
+// bealeBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func bealeBFGSAnalyticGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *bealeBFGSAnalyticDifferences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// bealeBFGSAnalyticSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (bealeBFGSAnalyticConfirmGradient), then it adds to each error
-// bound the rounding floor of x (bealeBFGSAnalyticRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func bealeBFGSAnalyticSettle(x *[2]float64, fx float64, g, e *[2]float64, diffs *bealeBFGSAnalyticDifferences, budget int) (int, bool) {
-	calls := 0
-	if bealeBFGSAnalyticDerivativeCost > 0 {
-		spent, ok := bealeBFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// bealeBFGSAnalyticAbs returns |v|.
+func bealeBFGSAnalyticAbs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	bealeBFGSAnalyticRoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // bealeBFGSAnalyticRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -636,6 +590,49 @@ func bealeBFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
 // bealeBFGSAnalyticSquareRoot returns √v.
 func bealeBFGSAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// bealeBFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func bealeBFGSAnalyticLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// bealeBFGSAnalyticGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func bealeBFGSAnalyticGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
+	scale := bealeBFGSAnalyticLarger(bealeBFGSAnalyticAbs(fx), 1)
+	for i := range g {
+		w := bealeBFGSAnalyticLarger(bealeBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = bealeBFGSAnalyticLarger(measure, (bealeBFGSAnalyticAbs(g[i])+e[i])*w)
+		floor = bealeBFGSAnalyticLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// bealeBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func bealeBFGSAnalyticStepWithin(s, x *[2]float64, tol float64) bool {
+	for i := range s {
+		if !(bealeBFGSAnalyticAbs(s[i]) <= tol*(bealeBFGSAnalyticAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // bealeBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the

@@ -190,11 +190,25 @@ func bealeBFGSCentralMinimize(x0 [2]float64, lim BealeBFGSCentralLimits) bealeBF
 	t, slope := float64(bealeBFGSCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                  // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                        // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                           // whether g and e at x come from bealeBFGSCentralConfirmGradient
+	confirmed := false                                           // whether g and e at x come from bealeBFGSCentralConfirmGradient or settle
 	stalled := false                                             // whether the run can make no more progress at x
 	retried := -1                                                // the iteration whose stall was retried with recalibrated differences
+	verify := bealeBFGSCentralVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != bealeBFGSCentralVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see bealeBFGSCentralConfirmGradient and settle).
+			calls, ok := bealeBFGSCentralSettle(&x, fx, &g, &e, &diffs, verify == bealeBFGSCentralVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(BealeBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !bealeBFGSCentralFiniteVec(&g) {
+				return best.ending(BealeBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = bealeBFGSCentralVerifyNothing, true
+		case !confirmed:
 			bealeBFGSCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := bealeBFGSCentralGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func bealeBFGSCentralMinimize(x0 [2]float64, lim BealeBFGSCentralLimits) bealeBF
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := bealeBFGSCentralConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(BealeBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !bealeBFGSCentralFiniteVec(&g) {
-				return best.ending(BealeBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = bealeBFGSCentralVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func bealeBFGSCentralMinimize(x0 [2]float64, lim BealeBFGSCentralLimits) bealeBF
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if bealeBFGSCentralStepWithin(&s, &x, lim.Step) {
-				calls, ok := bealeBFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(BealeBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !bealeBFGSCentralFiniteVec(&g) {
-					return best.ending(BealeBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = bealeBFGSCentralVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func bealeBFGSCentralMinimize(x0 [2]float64, lim BealeBFGSCentralLimits) bealeBF
 			case found.rising:
 				end = BealeBFGSCentralNoDecrease
 			case found.end == bealeBFGSCentralSearchTiny && canSettle:
-				calls, ok := bealeBFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(BealeBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !bealeBFGSCentralFiniteVec(&g) {
-					return best.ending(BealeBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = bealeBFGSCentralVerifyStall, true
 				continue
 			case found.end == bealeBFGSCentralSearchTiny:
 				end = BealeBFGSCentralStalled
@@ -633,37 +621,30 @@ func bealeBFGSCentralCurvatureSafe(s, y *[2]float64) bool {
 	return sy > 0 && (sy/bealeBFGSCentralDot(s, s))*(sy/bealeBFGSCentralDot(y, y)) > bealeBFGSCentralUnitRoundoff
 }
 
-// bealeBFGSCentralGradientError bounds each central difference's error by twice its
-// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
-// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
-// in forwardError).
-func bealeBFGSCentralGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *bealeBFGSCentralDifferences) {
-	noise := bealeBFGSCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h := diffs.ratio[i] * bealeBFGSCentralLarger(1, bealeBFGSCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	bealeBFGSCentralVerifyNothing = iota
+	bealeBFGSCentralVerifyPass    // a difference gradient passed the test
+	bealeBFGSCentralVerifyStall   // no step makes progress
+)
 
-// bealeBFGSCentralGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func bealeBFGSCentralGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
-	scale := bealeBFGSCentralLarger(bealeBFGSCentralAbs(fx), 1)
-	for i := range g {
-		w := bealeBFGSCentralLarger(bealeBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = bealeBFGSCentralLarger(measure, (bealeBFGSCentralAbs(g[i])+e[i])*w)
-		floor = bealeBFGSCentralLarger(floor, e[i]*w)
+// bealeBFGSCentralSettle prepares a verdict at x: with differences it confirms the
+// gradient (bealeBFGSCentralConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (bealeBFGSCentralRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func bealeBFGSCentralSettle(x *[2]float64, fx float64, g, e *[2]float64, diffs *bealeBFGSCentralDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if bealeBFGSCentralDerivativeCost > 0 {
+		spent, ok := bealeBFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
+	if stall {
+		bealeBFGSCentralRoundingFloor(x, g, e, diffs)
+	}
+	return calls, true
 }
 
 // bealeBFGSCentralConfirmGradient recomputes a difference gradient at x before the run is
@@ -696,33 +677,16 @@ func bealeBFGSCentralConfirmGradient(x *[2]float64, fx float64, g, e *[2]float64
 	return calls + 2*bealeBFGSCentralDerivativeCost, true
 }
 
-// bealeBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func bealeBFGSCentralStepWithin(s, x *[2]float64, tol float64) bool {
-	for i := range s {
-		if !(bealeBFGSCentralAbs(s[i]) <= tol*(bealeBFGSCentralAbs(x[i])+1)) {
-			return false
-		}
+// bealeBFGSCentralGradientError bounds each central difference's error by twice its
+// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
+// in forwardError).
+func bealeBFGSCentralGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *bealeBFGSCentralDifferences) {
+	noise := bealeBFGSCentralNoiseLevel(x, fx, g)
+	for i := range e {
+		h := diffs.ratio[i] * bealeBFGSCentralLarger(1, bealeBFGSCentralAbs(x[i]))
+		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
 	}
-	return true
-}
-
-// bealeBFGSCentralSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (bealeBFGSCentralConfirmGradient), then it adds to each error
-// bound the rounding floor of x (bealeBFGSCentralRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func bealeBFGSCentralSettle(x *[2]float64, fx float64, g, e *[2]float64, diffs *bealeBFGSCentralDifferences, budget int) (int, bool) {
-	calls := 0
-	if bealeBFGSCentralDerivativeCost > 0 {
-		spent, ok := bealeBFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
-	}
-	bealeBFGSCentralRoundingFloor(x, g, e, diffs)
-	return calls, true
 }
 
 // bealeBFGSCentralRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -743,6 +707,39 @@ func bealeBFGSCentralRoundingFloor(x, g, e *[2]float64, diffs *bealeBFGSCentralD
 // calibration, which bealeBFGSCentralConfirmGradient has just made at x.
 func bealeBFGSCentralDiagonalCurvature(x, g *[2]float64, diffs *bealeBFGSCentralDifferences, h *[2]float64) {
 	*h = diffs.second
+}
+
+// bealeBFGSCentralGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func bealeBFGSCentralGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
+	scale := bealeBFGSCentralLarger(bealeBFGSCentralAbs(fx), 1)
+	for i := range g {
+		w := bealeBFGSCentralLarger(bealeBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = bealeBFGSCentralLarger(measure, (bealeBFGSCentralAbs(g[i])+e[i])*w)
+		floor = bealeBFGSCentralLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// bealeBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func bealeBFGSCentralStepWithin(s, x *[2]float64, tol float64) bool {
+	for i := range s {
+		if !(bealeBFGSCentralAbs(s[i]) <= tol*(bealeBFGSCentralAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // bealeBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the

@@ -190,11 +190,25 @@ func bealeCGAnalyticMinimize(x0 [2]float64, lim BealeCGAnalyticLimits) bealeCGAn
 	t, slope := float64(bealeCGAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                 // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                       // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                          // whether g and e at x come from bealeCGAnalyticConfirmGradient
+	confirmed := false                                          // whether g and e at x come from bealeCGAnalyticConfirmGradient or settle
 	stalled := false                                            // whether the run can make no more progress at x
 	retried := -1                                               // the iteration whose stall was retried with recalibrated differences
+	verify := bealeCGAnalyticVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != bealeCGAnalyticVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see bealeCGAnalyticConfirmGradient and settle).
+			calls, ok := bealeCGAnalyticSettle(&x, fx, &g, &e, &diffs, verify == bealeCGAnalyticVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(BealeCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !bealeCGAnalyticFiniteVec(&g) {
+				return best.ending(BealeCGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = bealeCGAnalyticVerifyNothing, true
+		case !confirmed:
 			bealeCGAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := bealeCGAnalyticGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func bealeCGAnalyticMinimize(x0 [2]float64, lim BealeCGAnalyticLimits) bealeCGAn
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := bealeCGAnalyticConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(BealeCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !bealeCGAnalyticFiniteVec(&g) {
-				return best.ending(BealeCGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = bealeCGAnalyticVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func bealeCGAnalyticMinimize(x0 [2]float64, lim BealeCGAnalyticLimits) bealeCGAn
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if bealeCGAnalyticStepWithin(&s, &x, lim.Step) {
-				calls, ok := bealeCGAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(BealeCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !bealeCGAnalyticFiniteVec(&g) {
-					return best.ending(BealeCGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = bealeCGAnalyticVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func bealeCGAnalyticMinimize(x0 [2]float64, lim BealeCGAnalyticLimits) bealeCGAn
 			case found.rising:
 				end = BealeCGAnalyticNoDecrease
 			case found.end == bealeCGAnalyticSearchTiny && canSettle:
-				calls, ok := bealeCGAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(BealeCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !bealeCGAnalyticFiniteVec(&g) {
-					return best.ending(BealeCGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = bealeCGAnalyticVerifyStall, true
 				continue
 			case found.end == bealeCGAnalyticSearchTiny:
 				end = BealeCGAnalyticStalled
@@ -482,41 +470,30 @@ func bealeCGAnalyticScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
-// bealeCGAnalyticGradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func bealeCGAnalyticGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *bealeCGAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	bealeCGAnalyticVerifyNothing = iota
+	bealeCGAnalyticVerifyPass    // a difference gradient passed the test
+	bealeCGAnalyticVerifyStall   // no step makes progress
+)
 
-// bealeCGAnalyticGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func bealeCGAnalyticGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
-	scale := bealeCGAnalyticLarger(bealeCGAnalyticAbs(fx), 1)
-	for i := range g {
-		w := bealeCGAnalyticLarger(bealeCGAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = bealeCGAnalyticLarger(measure, (bealeCGAnalyticAbs(g[i])+e[i])*w)
-		floor = bealeCGAnalyticLarger(floor, e[i]*w)
+// bealeCGAnalyticSettle prepares a verdict at x: with differences it confirms the
+// gradient (bealeCGAnalyticConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (bealeCGAnalyticRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func bealeCGAnalyticSettle(x *[2]float64, fx float64, g, e *[2]float64, diffs *bealeCGAnalyticDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if bealeCGAnalyticDerivativeCost > 0 {
+		spent, ok := bealeCGAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// bealeCGAnalyticAbs returns |v|.
-func bealeCGAnalyticAbs(v float64) float64 {
-	if v < 0 {
-		return -v
+	if stall {
+		bealeCGAnalyticRoundingFloor(x, g, e, diffs)
 	}
-	return v
+	return calls, true
 }
 
 // bealeCGAnalyticConfirmGradient recomputes a difference gradient at x before the run is
@@ -549,33 +526,20 @@ func bealeCGAnalyticConfirmGradient(x *[2]float64, fx float64, g, e *[2]float64,
 	return calls + 2*bealeCGAnalyticDerivativeCost, true
 }
 
-// bealeCGAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func bealeCGAnalyticStepWithin(s, x *[2]float64, tol float64) bool {
-	for i := range s {
-		if !(bealeCGAnalyticAbs(s[i]) <= tol*(bealeCGAnalyticAbs(x[i])+1)) {
-			return false
-		}
+// bealeCGAnalyticGradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func bealeCGAnalyticGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *bealeCGAnalyticDifferences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// bealeCGAnalyticSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (bealeCGAnalyticConfirmGradient), then it adds to each error
-// bound the rounding floor of x (bealeCGAnalyticRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func bealeCGAnalyticSettle(x *[2]float64, fx float64, g, e *[2]float64, diffs *bealeCGAnalyticDifferences, budget int) (int, bool) {
-	calls := 0
-	if bealeCGAnalyticDerivativeCost > 0 {
-		spent, ok := bealeCGAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// bealeCGAnalyticAbs returns |v|.
+func bealeCGAnalyticAbs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	bealeCGAnalyticRoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // bealeCGAnalyticRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -618,6 +582,39 @@ func bealeCGAnalyticProbeStep(xi, h float64) (float64, float64) {
 // bealeCGAnalyticSquareRoot returns √v.
 func bealeCGAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// bealeCGAnalyticGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func bealeCGAnalyticGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
+	scale := bealeCGAnalyticLarger(bealeCGAnalyticAbs(fx), 1)
+	for i := range g {
+		w := bealeCGAnalyticLarger(bealeCGAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = bealeCGAnalyticLarger(measure, (bealeCGAnalyticAbs(g[i])+e[i])*w)
+		floor = bealeCGAnalyticLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// bealeCGAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func bealeCGAnalyticStepWithin(s, x *[2]float64, tol float64) bool {
+	for i := range s {
+		if !(bealeCGAnalyticAbs(s[i]) <= tol*(bealeCGAnalyticAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // bealeCGAnalyticTinyStep returns the longest t for which the step t·d from x passes the

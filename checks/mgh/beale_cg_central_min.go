@@ -190,11 +190,25 @@ func bealeCGCentralMinimize(x0 [2]float64, lim BealeCGCentralLimits) bealeCGCent
 	t, slope := float64(bealeCGCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                      // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                         // whether g and e at x come from bealeCGCentralConfirmGradient
+	confirmed := false                                         // whether g and e at x come from bealeCGCentralConfirmGradient or settle
 	stalled := false                                           // whether the run can make no more progress at x
 	retried := -1                                              // the iteration whose stall was retried with recalibrated differences
+	verify := bealeCGCentralVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != bealeCGCentralVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see bealeCGCentralConfirmGradient and settle).
+			calls, ok := bealeCGCentralSettle(&x, fx, &g, &e, &diffs, verify == bealeCGCentralVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(BealeCGCentralOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !bealeCGCentralFiniteVec(&g) {
+				return best.ending(BealeCGCentralNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = bealeCGCentralVerifyNothing, true
+		case !confirmed:
 			bealeCGCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := bealeCGCentralGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func bealeCGCentralMinimize(x0 [2]float64, lim BealeCGCentralLimits) bealeCGCent
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := bealeCGCentralConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(BealeCGCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !bealeCGCentralFiniteVec(&g) {
-				return best.ending(BealeCGCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = bealeCGCentralVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func bealeCGCentralMinimize(x0 [2]float64, lim BealeCGCentralLimits) bealeCGCent
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if bealeCGCentralStepWithin(&s, &x, lim.Step) {
-				calls, ok := bealeCGCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(BealeCGCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !bealeCGCentralFiniteVec(&g) {
-					return best.ending(BealeCGCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = bealeCGCentralVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func bealeCGCentralMinimize(x0 [2]float64, lim BealeCGCentralLimits) bealeCGCent
 			case found.rising:
 				end = BealeCGCentralNoDecrease
 			case found.end == bealeCGCentralSearchTiny && canSettle:
-				calls, ok := bealeCGCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(BealeCGCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !bealeCGCentralFiniteVec(&g) {
-					return best.ending(BealeCGCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = bealeCGCentralVerifyStall, true
 				continue
 			case found.end == bealeCGCentralSearchTiny:
 				end = BealeCGCentralStalled
@@ -615,37 +603,30 @@ func bealeCGCentralScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
-// bealeCGCentralGradientError bounds each central difference's error by twice its
-// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
-// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
-// in forwardError).
-func bealeCGCentralGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *bealeCGCentralDifferences) {
-	noise := bealeCGCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h := diffs.ratio[i] * bealeCGCentralLarger(1, bealeCGCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	bealeCGCentralVerifyNothing = iota
+	bealeCGCentralVerifyPass    // a difference gradient passed the test
+	bealeCGCentralVerifyStall   // no step makes progress
+)
 
-// bealeCGCentralGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func bealeCGCentralGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
-	scale := bealeCGCentralLarger(bealeCGCentralAbs(fx), 1)
-	for i := range g {
-		w := bealeCGCentralLarger(bealeCGCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = bealeCGCentralLarger(measure, (bealeCGCentralAbs(g[i])+e[i])*w)
-		floor = bealeCGCentralLarger(floor, e[i]*w)
+// bealeCGCentralSettle prepares a verdict at x: with differences it confirms the
+// gradient (bealeCGCentralConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (bealeCGCentralRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func bealeCGCentralSettle(x *[2]float64, fx float64, g, e *[2]float64, diffs *bealeCGCentralDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if bealeCGCentralDerivativeCost > 0 {
+		spent, ok := bealeCGCentralConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
+	if stall {
+		bealeCGCentralRoundingFloor(x, g, e, diffs)
+	}
+	return calls, true
 }
 
 // bealeCGCentralConfirmGradient recomputes a difference gradient at x before the run is
@@ -678,33 +659,16 @@ func bealeCGCentralConfirmGradient(x *[2]float64, fx float64, g, e *[2]float64, 
 	return calls + 2*bealeCGCentralDerivativeCost, true
 }
 
-// bealeCGCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func bealeCGCentralStepWithin(s, x *[2]float64, tol float64) bool {
-	for i := range s {
-		if !(bealeCGCentralAbs(s[i]) <= tol*(bealeCGCentralAbs(x[i])+1)) {
-			return false
-		}
+// bealeCGCentralGradientError bounds each central difference's error by twice its
+// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
+// in forwardError).
+func bealeCGCentralGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *bealeCGCentralDifferences) {
+	noise := bealeCGCentralNoiseLevel(x, fx, g)
+	for i := range e {
+		h := diffs.ratio[i] * bealeCGCentralLarger(1, bealeCGCentralAbs(x[i]))
+		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
 	}
-	return true
-}
-
-// bealeCGCentralSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (bealeCGCentralConfirmGradient), then it adds to each error
-// bound the rounding floor of x (bealeCGCentralRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func bealeCGCentralSettle(x *[2]float64, fx float64, g, e *[2]float64, diffs *bealeCGCentralDifferences, budget int) (int, bool) {
-	calls := 0
-	if bealeCGCentralDerivativeCost > 0 {
-		spent, ok := bealeCGCentralConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
-	}
-	bealeCGCentralRoundingFloor(x, g, e, diffs)
-	return calls, true
 }
 
 // bealeCGCentralRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -725,6 +689,39 @@ func bealeCGCentralRoundingFloor(x, g, e *[2]float64, diffs *bealeCGCentralDiffe
 // calibration, which bealeCGCentralConfirmGradient has just made at x.
 func bealeCGCentralDiagonalCurvature(x, g *[2]float64, diffs *bealeCGCentralDifferences, h *[2]float64) {
 	*h = diffs.second
+}
+
+// bealeCGCentralGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func bealeCGCentralGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
+	scale := bealeCGCentralLarger(bealeCGCentralAbs(fx), 1)
+	for i := range g {
+		w := bealeCGCentralLarger(bealeCGCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = bealeCGCentralLarger(measure, (bealeCGCentralAbs(g[i])+e[i])*w)
+		floor = bealeCGCentralLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// bealeCGCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func bealeCGCentralStepWithin(s, x *[2]float64, tol float64) bool {
+	for i := range s {
+		if !(bealeCGCentralAbs(s[i]) <= tol*(bealeCGCentralAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // bealeCGCentralTinyStep returns the longest t for which the step t·d from x passes the

@@ -191,11 +191,25 @@ func bealeLBFGSAnalyticMinimize(x0 [2]float64, lim BealeLBFGSAnalyticLimits) bea
 	t, slope := float64(bealeLBFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                    // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                          // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                             // whether g and e at x come from bealeLBFGSAnalyticConfirmGradient
+	confirmed := false                                             // whether g and e at x come from bealeLBFGSAnalyticConfirmGradient or settle
 	stalled := false                                               // whether the run can make no more progress at x
 	retried := -1                                                  // the iteration whose stall was retried with recalibrated differences
+	verify := bealeLBFGSAnalyticVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != bealeLBFGSAnalyticVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see bealeLBFGSAnalyticConfirmGradient and settle).
+			calls, ok := bealeLBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, verify == bealeLBFGSAnalyticVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(BealeLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !bealeLBFGSAnalyticFiniteVec(&g) {
+				return best.ending(BealeLBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = bealeLBFGSAnalyticVerifyNothing, true
+		case !confirmed:
 			bealeLBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := bealeLBFGSAnalyticGradientMeasure(&g, &e, &x, fx)
@@ -213,17 +227,7 @@ func bealeLBFGSAnalyticMinimize(x0 [2]float64, lim BealeLBFGSAnalyticLimits) bea
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := bealeLBFGSAnalyticConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(BealeLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !bealeLBFGSAnalyticFiniteVec(&g) {
-				return best.ending(BealeLBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = bealeLBFGSAnalyticVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -241,15 +245,7 @@ func bealeLBFGSAnalyticMinimize(x0 [2]float64, lim BealeLBFGSAnalyticLimits) bea
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if bealeLBFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				calls, ok := bealeLBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(BealeLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !bealeLBFGSAnalyticFiniteVec(&g) {
-					return best.ending(BealeLBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = bealeLBFGSAnalyticVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -290,15 +286,7 @@ func bealeLBFGSAnalyticMinimize(x0 [2]float64, lim BealeLBFGSAnalyticLimits) bea
 			case found.rising:
 				end = BealeLBFGSAnalyticNoDecrease
 			case found.end == bealeLBFGSAnalyticSearchTiny && canSettle:
-				calls, ok := bealeLBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(BealeLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !bealeLBFGSAnalyticFiniteVec(&g) {
-					return best.ending(BealeLBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = bealeLBFGSAnalyticVerifyStall, true
 				continue
 			case found.end == bealeLBFGSAnalyticSearchTiny:
 				end = BealeLBFGSAnalyticStalled
@@ -516,51 +504,30 @@ func bealeLBFGSAnalyticCurvatureSafe(s, y *[2]float64) bool {
 	return sy > 0 && (sy/bealeLBFGSAnalyticDot(s, s))*(sy/bealeLBFGSAnalyticDot(y, y)) > bealeLBFGSAnalyticUnitRoundoff
 }
 
-// bealeLBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func bealeLBFGSAnalyticGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *bealeLBFGSAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	bealeLBFGSAnalyticVerifyNothing = iota
+	bealeLBFGSAnalyticVerifyPass    // a difference gradient passed the test
+	bealeLBFGSAnalyticVerifyStall   // no step makes progress
+)
 
-// bealeLBFGSAnalyticGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func bealeLBFGSAnalyticGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
-	scale := bealeLBFGSAnalyticLarger(bealeLBFGSAnalyticAbs(fx), 1)
-	for i := range g {
-		w := bealeLBFGSAnalyticLarger(bealeLBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = bealeLBFGSAnalyticLarger(measure, (bealeLBFGSAnalyticAbs(g[i])+e[i])*w)
-		floor = bealeLBFGSAnalyticLarger(floor, e[i]*w)
+// bealeLBFGSAnalyticSettle prepares a verdict at x: with differences it confirms the
+// gradient (bealeLBFGSAnalyticConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (bealeLBFGSAnalyticRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func bealeLBFGSAnalyticSettle(x *[2]float64, fx float64, g, e *[2]float64, diffs *bealeLBFGSAnalyticDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if bealeLBFGSAnalyticDerivativeCost > 0 {
+		spent, ok := bealeLBFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// bealeLBFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func bealeLBFGSAnalyticLarger(a, b float64) float64 {
-	if a > b || a != a {
-		return a
+	if stall {
+		bealeLBFGSAnalyticRoundingFloor(x, g, e, diffs)
 	}
-	return b
-}
-
-// bealeLBFGSAnalyticAbs returns |v|.
-func bealeLBFGSAnalyticAbs(v float64) float64 {
-	if v < 0 {
-		return -v
-	}
-	return v
+	return calls, true
 }
 
 // bealeLBFGSAnalyticConfirmGradient recomputes a difference gradient at x before the run is
@@ -593,33 +560,20 @@ func bealeLBFGSAnalyticConfirmGradient(x *[2]float64, fx float64, g, e *[2]float
 	return calls + 2*bealeLBFGSAnalyticDerivativeCost, true
 }
 
-// bealeLBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func bealeLBFGSAnalyticStepWithin(s, x *[2]float64, tol float64) bool {
-	for i := range s {
-		if !(bealeLBFGSAnalyticAbs(s[i]) <= tol*(bealeLBFGSAnalyticAbs(x[i])+1)) {
-			return false
-		}
+// bealeLBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func bealeLBFGSAnalyticGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *bealeLBFGSAnalyticDifferences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// bealeLBFGSAnalyticSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (bealeLBFGSAnalyticConfirmGradient), then it adds to each error
-// bound the rounding floor of x (bealeLBFGSAnalyticRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func bealeLBFGSAnalyticSettle(x *[2]float64, fx float64, g, e *[2]float64, diffs *bealeLBFGSAnalyticDifferences, budget int) (int, bool) {
-	calls := 0
-	if bealeLBFGSAnalyticDerivativeCost > 0 {
-		spent, ok := bealeLBFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// bealeLBFGSAnalyticAbs returns |v|.
+func bealeLBFGSAnalyticAbs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	bealeLBFGSAnalyticRoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // bealeLBFGSAnalyticRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -662,6 +616,49 @@ func bealeLBFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
 // bealeLBFGSAnalyticSquareRoot returns √v.
 func bealeLBFGSAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// bealeLBFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func bealeLBFGSAnalyticLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// bealeLBFGSAnalyticGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func bealeLBFGSAnalyticGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
+	scale := bealeLBFGSAnalyticLarger(bealeLBFGSAnalyticAbs(fx), 1)
+	for i := range g {
+		w := bealeLBFGSAnalyticLarger(bealeLBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = bealeLBFGSAnalyticLarger(measure, (bealeLBFGSAnalyticAbs(g[i])+e[i])*w)
+		floor = bealeLBFGSAnalyticLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// bealeLBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func bealeLBFGSAnalyticStepWithin(s, x *[2]float64, tol float64) bool {
+	for i := range s {
+		if !(bealeLBFGSAnalyticAbs(s[i]) <= tol*(bealeLBFGSAnalyticAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // bealeLBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the

@@ -191,11 +191,25 @@ func bealeLBFGSCentralMinimize(x0 [2]float64, lim BealeLBFGSCentralLimits) beale
 	t, slope := float64(bealeLBFGSCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                   // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                         // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                            // whether g and e at x come from bealeLBFGSCentralConfirmGradient
+	confirmed := false                                            // whether g and e at x come from bealeLBFGSCentralConfirmGradient or settle
 	stalled := false                                              // whether the run can make no more progress at x
 	retried := -1                                                 // the iteration whose stall was retried with recalibrated differences
+	verify := bealeLBFGSCentralVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != bealeLBFGSCentralVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see bealeLBFGSCentralConfirmGradient and settle).
+			calls, ok := bealeLBFGSCentralSettle(&x, fx, &g, &e, &diffs, verify == bealeLBFGSCentralVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(BealeLBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !bealeLBFGSCentralFiniteVec(&g) {
+				return best.ending(BealeLBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = bealeLBFGSCentralVerifyNothing, true
+		case !confirmed:
 			bealeLBFGSCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := bealeLBFGSCentralGradientMeasure(&g, &e, &x, fx)
@@ -213,17 +227,7 @@ func bealeLBFGSCentralMinimize(x0 [2]float64, lim BealeLBFGSCentralLimits) beale
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := bealeLBFGSCentralConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(BealeLBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !bealeLBFGSCentralFiniteVec(&g) {
-				return best.ending(BealeLBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = bealeLBFGSCentralVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -241,15 +245,7 @@ func bealeLBFGSCentralMinimize(x0 [2]float64, lim BealeLBFGSCentralLimits) beale
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if bealeLBFGSCentralStepWithin(&s, &x, lim.Step) {
-				calls, ok := bealeLBFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(BealeLBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !bealeLBFGSCentralFiniteVec(&g) {
-					return best.ending(BealeLBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = bealeLBFGSCentralVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -290,15 +286,7 @@ func bealeLBFGSCentralMinimize(x0 [2]float64, lim BealeLBFGSCentralLimits) beale
 			case found.rising:
 				end = BealeLBFGSCentralNoDecrease
 			case found.end == bealeLBFGSCentralSearchTiny && canSettle:
-				calls, ok := bealeLBFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(BealeLBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !bealeLBFGSCentralFiniteVec(&g) {
-					return best.ending(BealeLBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = bealeLBFGSCentralVerifyStall, true
 				continue
 			case found.end == bealeLBFGSCentralSearchTiny:
 				end = BealeLBFGSCentralStalled
@@ -659,37 +647,30 @@ func bealeLBFGSCentralCurvatureSafe(s, y *[2]float64) bool {
 	return sy > 0 && (sy/bealeLBFGSCentralDot(s, s))*(sy/bealeLBFGSCentralDot(y, y)) > bealeLBFGSCentralUnitRoundoff
 }
 
-// bealeLBFGSCentralGradientError bounds each central difference's error by twice its
-// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
-// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
-// in forwardError).
-func bealeLBFGSCentralGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *bealeLBFGSCentralDifferences) {
-	noise := bealeLBFGSCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h := diffs.ratio[i] * bealeLBFGSCentralLarger(1, bealeLBFGSCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	bealeLBFGSCentralVerifyNothing = iota
+	bealeLBFGSCentralVerifyPass    // a difference gradient passed the test
+	bealeLBFGSCentralVerifyStall   // no step makes progress
+)
 
-// bealeLBFGSCentralGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func bealeLBFGSCentralGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
-	scale := bealeLBFGSCentralLarger(bealeLBFGSCentralAbs(fx), 1)
-	for i := range g {
-		w := bealeLBFGSCentralLarger(bealeLBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = bealeLBFGSCentralLarger(measure, (bealeLBFGSCentralAbs(g[i])+e[i])*w)
-		floor = bealeLBFGSCentralLarger(floor, e[i]*w)
+// bealeLBFGSCentralSettle prepares a verdict at x: with differences it confirms the
+// gradient (bealeLBFGSCentralConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (bealeLBFGSCentralRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func bealeLBFGSCentralSettle(x *[2]float64, fx float64, g, e *[2]float64, diffs *bealeLBFGSCentralDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if bealeLBFGSCentralDerivativeCost > 0 {
+		spent, ok := bealeLBFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
+	if stall {
+		bealeLBFGSCentralRoundingFloor(x, g, e, diffs)
+	}
+	return calls, true
 }
 
 // bealeLBFGSCentralConfirmGradient recomputes a difference gradient at x before the run is
@@ -722,33 +703,16 @@ func bealeLBFGSCentralConfirmGradient(x *[2]float64, fx float64, g, e *[2]float6
 	return calls + 2*bealeLBFGSCentralDerivativeCost, true
 }
 
-// bealeLBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func bealeLBFGSCentralStepWithin(s, x *[2]float64, tol float64) bool {
-	for i := range s {
-		if !(bealeLBFGSCentralAbs(s[i]) <= tol*(bealeLBFGSCentralAbs(x[i])+1)) {
-			return false
-		}
+// bealeLBFGSCentralGradientError bounds each central difference's error by twice its
+// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
+// in forwardError).
+func bealeLBFGSCentralGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *bealeLBFGSCentralDifferences) {
+	noise := bealeLBFGSCentralNoiseLevel(x, fx, g)
+	for i := range e {
+		h := diffs.ratio[i] * bealeLBFGSCentralLarger(1, bealeLBFGSCentralAbs(x[i]))
+		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
 	}
-	return true
-}
-
-// bealeLBFGSCentralSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (bealeLBFGSCentralConfirmGradient), then it adds to each error
-// bound the rounding floor of x (bealeLBFGSCentralRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func bealeLBFGSCentralSettle(x *[2]float64, fx float64, g, e *[2]float64, diffs *bealeLBFGSCentralDifferences, budget int) (int, bool) {
-	calls := 0
-	if bealeLBFGSCentralDerivativeCost > 0 {
-		spent, ok := bealeLBFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
-	}
-	bealeLBFGSCentralRoundingFloor(x, g, e, diffs)
-	return calls, true
 }
 
 // bealeLBFGSCentralRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -769,6 +733,39 @@ func bealeLBFGSCentralRoundingFloor(x, g, e *[2]float64, diffs *bealeLBFGSCentra
 // calibration, which bealeLBFGSCentralConfirmGradient has just made at x.
 func bealeLBFGSCentralDiagonalCurvature(x, g *[2]float64, diffs *bealeLBFGSCentralDifferences, h *[2]float64) {
 	*h = diffs.second
+}
+
+// bealeLBFGSCentralGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func bealeLBFGSCentralGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
+	scale := bealeLBFGSCentralLarger(bealeLBFGSCentralAbs(fx), 1)
+	for i := range g {
+		w := bealeLBFGSCentralLarger(bealeLBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = bealeLBFGSCentralLarger(measure, (bealeLBFGSCentralAbs(g[i])+e[i])*w)
+		floor = bealeLBFGSCentralLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// bealeLBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func bealeLBFGSCentralStepWithin(s, x *[2]float64, tol float64) bool {
+	for i := range s {
+		if !(bealeLBFGSCentralAbs(s[i]) <= tol*(bealeLBFGSCentralAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // bealeLBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the

@@ -190,11 +190,25 @@ func biggsEXP6BFGSAnalyticMinimize(x0 [6]float64, lim BiggsEXP6BFGSAnalyticLimit
 	t, slope := float64(biggsEXP6BFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                       // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                             // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                // whether g and e at x come from biggsEXP6BFGSAnalyticConfirmGradient
+	confirmed := false                                                // whether g and e at x come from biggsEXP6BFGSAnalyticConfirmGradient or settle
 	stalled := false                                                  // whether the run can make no more progress at x
 	retried := -1                                                     // the iteration whose stall was retried with recalibrated differences
+	verify := biggsEXP6BFGSAnalyticVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != biggsEXP6BFGSAnalyticVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see biggsEXP6BFGSAnalyticConfirmGradient and settle).
+			calls, ok := biggsEXP6BFGSAnalyticSettle(&x, fx, &g, &e, &diffs, verify == biggsEXP6BFGSAnalyticVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(BiggsEXP6BFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !biggsEXP6BFGSAnalyticFiniteVec(&g) {
+				return best.ending(BiggsEXP6BFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = biggsEXP6BFGSAnalyticVerifyNothing, true
+		case !confirmed:
 			biggsEXP6BFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := biggsEXP6BFGSAnalyticGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func biggsEXP6BFGSAnalyticMinimize(x0 [6]float64, lim BiggsEXP6BFGSAnalyticLimit
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := biggsEXP6BFGSAnalyticConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(BiggsEXP6BFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !biggsEXP6BFGSAnalyticFiniteVec(&g) {
-				return best.ending(BiggsEXP6BFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = biggsEXP6BFGSAnalyticVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func biggsEXP6BFGSAnalyticMinimize(x0 [6]float64, lim BiggsEXP6BFGSAnalyticLimit
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if biggsEXP6BFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				calls, ok := biggsEXP6BFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(BiggsEXP6BFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !biggsEXP6BFGSAnalyticFiniteVec(&g) {
-					return best.ending(BiggsEXP6BFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = biggsEXP6BFGSAnalyticVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func biggsEXP6BFGSAnalyticMinimize(x0 [6]float64, lim BiggsEXP6BFGSAnalyticLimit
 			case found.rising:
 				end = BiggsEXP6BFGSAnalyticNoDecrease
 			case found.end == biggsEXP6BFGSAnalyticSearchTiny && canSettle:
-				calls, ok := biggsEXP6BFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(BiggsEXP6BFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !biggsEXP6BFGSAnalyticFiniteVec(&g) {
-					return best.ending(BiggsEXP6BFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = biggsEXP6BFGSAnalyticVerifyStall, true
 				continue
 			case found.end == biggsEXP6BFGSAnalyticSearchTiny:
 				end = BiggsEXP6BFGSAnalyticStalled
@@ -490,51 +478,30 @@ func biggsEXP6BFGSAnalyticCurvatureSafe(s, y *[6]float64) bool {
 	return sy > 0 && (sy/biggsEXP6BFGSAnalyticDot(s, s))*(sy/biggsEXP6BFGSAnalyticDot(y, y)) > biggsEXP6BFGSAnalyticUnitRoundoff
 }
 
-// biggsEXP6BFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func biggsEXP6BFGSAnalyticGradientError(x *[6]float64, fx float64, g, e *[6]float64, diffs *biggsEXP6BFGSAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	biggsEXP6BFGSAnalyticVerifyNothing = iota
+	biggsEXP6BFGSAnalyticVerifyPass    // a difference gradient passed the test
+	biggsEXP6BFGSAnalyticVerifyStall   // no step makes progress
+)
 
-// biggsEXP6BFGSAnalyticGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func biggsEXP6BFGSAnalyticGradientMeasure(g, e, x *[6]float64, fx float64) (measure, floor float64) {
-	scale := biggsEXP6BFGSAnalyticLarger(biggsEXP6BFGSAnalyticAbs(fx), 1)
-	for i := range g {
-		w := biggsEXP6BFGSAnalyticLarger(biggsEXP6BFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = biggsEXP6BFGSAnalyticLarger(measure, (biggsEXP6BFGSAnalyticAbs(g[i])+e[i])*w)
-		floor = biggsEXP6BFGSAnalyticLarger(floor, e[i]*w)
+// biggsEXP6BFGSAnalyticSettle prepares a verdict at x: with differences it confirms the
+// gradient (biggsEXP6BFGSAnalyticConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (biggsEXP6BFGSAnalyticRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func biggsEXP6BFGSAnalyticSettle(x *[6]float64, fx float64, g, e *[6]float64, diffs *biggsEXP6BFGSAnalyticDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if biggsEXP6BFGSAnalyticDerivativeCost > 0 {
+		spent, ok := biggsEXP6BFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// biggsEXP6BFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func biggsEXP6BFGSAnalyticLarger(a, b float64) float64 {
-	if a > b || a != a {
-		return a
+	if stall {
+		biggsEXP6BFGSAnalyticRoundingFloor(x, g, e, diffs)
 	}
-	return b
-}
-
-// biggsEXP6BFGSAnalyticAbs returns |v|.
-func biggsEXP6BFGSAnalyticAbs(v float64) float64 {
-	if v < 0 {
-		return -v
-	}
-	return v
+	return calls, true
 }
 
 // biggsEXP6BFGSAnalyticConfirmGradient recomputes a difference gradient at x before the run is
@@ -567,33 +534,20 @@ func biggsEXP6BFGSAnalyticConfirmGradient(x *[6]float64, fx float64, g, e *[6]fl
 	return calls + 2*biggsEXP6BFGSAnalyticDerivativeCost, true
 }
 
-// biggsEXP6BFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func biggsEXP6BFGSAnalyticStepWithin(s, x *[6]float64, tol float64) bool {
-	for i := range s {
-		if !(biggsEXP6BFGSAnalyticAbs(s[i]) <= tol*(biggsEXP6BFGSAnalyticAbs(x[i])+1)) {
-			return false
-		}
+// biggsEXP6BFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func biggsEXP6BFGSAnalyticGradientError(x *[6]float64, fx float64, g, e *[6]float64, diffs *biggsEXP6BFGSAnalyticDifferences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// biggsEXP6BFGSAnalyticSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (biggsEXP6BFGSAnalyticConfirmGradient), then it adds to each error
-// bound the rounding floor of x (biggsEXP6BFGSAnalyticRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func biggsEXP6BFGSAnalyticSettle(x *[6]float64, fx float64, g, e *[6]float64, diffs *biggsEXP6BFGSAnalyticDifferences, budget int) (int, bool) {
-	calls := 0
-	if biggsEXP6BFGSAnalyticDerivativeCost > 0 {
-		spent, ok := biggsEXP6BFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// biggsEXP6BFGSAnalyticAbs returns |v|.
+func biggsEXP6BFGSAnalyticAbs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	biggsEXP6BFGSAnalyticRoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // biggsEXP6BFGSAnalyticRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -636,6 +590,49 @@ func biggsEXP6BFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
 // biggsEXP6BFGSAnalyticSquareRoot returns √v.
 func biggsEXP6BFGSAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// biggsEXP6BFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func biggsEXP6BFGSAnalyticLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// biggsEXP6BFGSAnalyticGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func biggsEXP6BFGSAnalyticGradientMeasure(g, e, x *[6]float64, fx float64) (measure, floor float64) {
+	scale := biggsEXP6BFGSAnalyticLarger(biggsEXP6BFGSAnalyticAbs(fx), 1)
+	for i := range g {
+		w := biggsEXP6BFGSAnalyticLarger(biggsEXP6BFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = biggsEXP6BFGSAnalyticLarger(measure, (biggsEXP6BFGSAnalyticAbs(g[i])+e[i])*w)
+		floor = biggsEXP6BFGSAnalyticLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// biggsEXP6BFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func biggsEXP6BFGSAnalyticStepWithin(s, x *[6]float64, tol float64) bool {
+	for i := range s {
+		if !(biggsEXP6BFGSAnalyticAbs(s[i]) <= tol*(biggsEXP6BFGSAnalyticAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // biggsEXP6BFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the

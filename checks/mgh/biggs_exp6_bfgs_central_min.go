@@ -190,11 +190,25 @@ func biggsEXP6BFGSCentralMinimize(x0 [6]float64, lim BiggsEXP6BFGSCentralLimits)
 	t, slope := float64(biggsEXP6BFGSCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                      // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                            // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                               // whether g and e at x come from biggsEXP6BFGSCentralConfirmGradient
+	confirmed := false                                               // whether g and e at x come from biggsEXP6BFGSCentralConfirmGradient or settle
 	stalled := false                                                 // whether the run can make no more progress at x
 	retried := -1                                                    // the iteration whose stall was retried with recalibrated differences
+	verify := biggsEXP6BFGSCentralVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != biggsEXP6BFGSCentralVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see biggsEXP6BFGSCentralConfirmGradient and settle).
+			calls, ok := biggsEXP6BFGSCentralSettle(&x, fx, &g, &e, &diffs, verify == biggsEXP6BFGSCentralVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(BiggsEXP6BFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !biggsEXP6BFGSCentralFiniteVec(&g) {
+				return best.ending(BiggsEXP6BFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = biggsEXP6BFGSCentralVerifyNothing, true
+		case !confirmed:
 			biggsEXP6BFGSCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := biggsEXP6BFGSCentralGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func biggsEXP6BFGSCentralMinimize(x0 [6]float64, lim BiggsEXP6BFGSCentralLimits)
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := biggsEXP6BFGSCentralConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(BiggsEXP6BFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !biggsEXP6BFGSCentralFiniteVec(&g) {
-				return best.ending(BiggsEXP6BFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = biggsEXP6BFGSCentralVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func biggsEXP6BFGSCentralMinimize(x0 [6]float64, lim BiggsEXP6BFGSCentralLimits)
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if biggsEXP6BFGSCentralStepWithin(&s, &x, lim.Step) {
-				calls, ok := biggsEXP6BFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(BiggsEXP6BFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !biggsEXP6BFGSCentralFiniteVec(&g) {
-					return best.ending(BiggsEXP6BFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = biggsEXP6BFGSCentralVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func biggsEXP6BFGSCentralMinimize(x0 [6]float64, lim BiggsEXP6BFGSCentralLimits)
 			case found.rising:
 				end = BiggsEXP6BFGSCentralNoDecrease
 			case found.end == biggsEXP6BFGSCentralSearchTiny && canSettle:
-				calls, ok := biggsEXP6BFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(BiggsEXP6BFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !biggsEXP6BFGSCentralFiniteVec(&g) {
-					return best.ending(BiggsEXP6BFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = biggsEXP6BFGSCentralVerifyStall, true
 				continue
 			case found.end == biggsEXP6BFGSCentralSearchTiny:
 				end = BiggsEXP6BFGSCentralStalled
@@ -633,37 +621,30 @@ func biggsEXP6BFGSCentralCurvatureSafe(s, y *[6]float64) bool {
 	return sy > 0 && (sy/biggsEXP6BFGSCentralDot(s, s))*(sy/biggsEXP6BFGSCentralDot(y, y)) > biggsEXP6BFGSCentralUnitRoundoff
 }
 
-// biggsEXP6BFGSCentralGradientError bounds each central difference's error by twice its
-// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
-// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
-// in forwardError).
-func biggsEXP6BFGSCentralGradientError(x *[6]float64, fx float64, g, e *[6]float64, diffs *biggsEXP6BFGSCentralDifferences) {
-	noise := biggsEXP6BFGSCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h := diffs.ratio[i] * biggsEXP6BFGSCentralLarger(1, biggsEXP6BFGSCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	biggsEXP6BFGSCentralVerifyNothing = iota
+	biggsEXP6BFGSCentralVerifyPass    // a difference gradient passed the test
+	biggsEXP6BFGSCentralVerifyStall   // no step makes progress
+)
 
-// biggsEXP6BFGSCentralGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func biggsEXP6BFGSCentralGradientMeasure(g, e, x *[6]float64, fx float64) (measure, floor float64) {
-	scale := biggsEXP6BFGSCentralLarger(biggsEXP6BFGSCentralAbs(fx), 1)
-	for i := range g {
-		w := biggsEXP6BFGSCentralLarger(biggsEXP6BFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = biggsEXP6BFGSCentralLarger(measure, (biggsEXP6BFGSCentralAbs(g[i])+e[i])*w)
-		floor = biggsEXP6BFGSCentralLarger(floor, e[i]*w)
+// biggsEXP6BFGSCentralSettle prepares a verdict at x: with differences it confirms the
+// gradient (biggsEXP6BFGSCentralConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (biggsEXP6BFGSCentralRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func biggsEXP6BFGSCentralSettle(x *[6]float64, fx float64, g, e *[6]float64, diffs *biggsEXP6BFGSCentralDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if biggsEXP6BFGSCentralDerivativeCost > 0 {
+		spent, ok := biggsEXP6BFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
+	if stall {
+		biggsEXP6BFGSCentralRoundingFloor(x, g, e, diffs)
+	}
+	return calls, true
 }
 
 // biggsEXP6BFGSCentralConfirmGradient recomputes a difference gradient at x before the run is
@@ -696,33 +677,16 @@ func biggsEXP6BFGSCentralConfirmGradient(x *[6]float64, fx float64, g, e *[6]flo
 	return calls + 2*biggsEXP6BFGSCentralDerivativeCost, true
 }
 
-// biggsEXP6BFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func biggsEXP6BFGSCentralStepWithin(s, x *[6]float64, tol float64) bool {
-	for i := range s {
-		if !(biggsEXP6BFGSCentralAbs(s[i]) <= tol*(biggsEXP6BFGSCentralAbs(x[i])+1)) {
-			return false
-		}
+// biggsEXP6BFGSCentralGradientError bounds each central difference's error by twice its
+// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
+// in forwardError).
+func biggsEXP6BFGSCentralGradientError(x *[6]float64, fx float64, g, e *[6]float64, diffs *biggsEXP6BFGSCentralDifferences) {
+	noise := biggsEXP6BFGSCentralNoiseLevel(x, fx, g)
+	for i := range e {
+		h := diffs.ratio[i] * biggsEXP6BFGSCentralLarger(1, biggsEXP6BFGSCentralAbs(x[i]))
+		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
 	}
-	return true
-}
-
-// biggsEXP6BFGSCentralSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (biggsEXP6BFGSCentralConfirmGradient), then it adds to each error
-// bound the rounding floor of x (biggsEXP6BFGSCentralRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func biggsEXP6BFGSCentralSettle(x *[6]float64, fx float64, g, e *[6]float64, diffs *biggsEXP6BFGSCentralDifferences, budget int) (int, bool) {
-	calls := 0
-	if biggsEXP6BFGSCentralDerivativeCost > 0 {
-		spent, ok := biggsEXP6BFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
-	}
-	biggsEXP6BFGSCentralRoundingFloor(x, g, e, diffs)
-	return calls, true
 }
 
 // biggsEXP6BFGSCentralRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -743,6 +707,39 @@ func biggsEXP6BFGSCentralRoundingFloor(x, g, e *[6]float64, diffs *biggsEXP6BFGS
 // calibration, which biggsEXP6BFGSCentralConfirmGradient has just made at x.
 func biggsEXP6BFGSCentralDiagonalCurvature(x, g *[6]float64, diffs *biggsEXP6BFGSCentralDifferences, h *[6]float64) {
 	*h = diffs.second
+}
+
+// biggsEXP6BFGSCentralGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func biggsEXP6BFGSCentralGradientMeasure(g, e, x *[6]float64, fx float64) (measure, floor float64) {
+	scale := biggsEXP6BFGSCentralLarger(biggsEXP6BFGSCentralAbs(fx), 1)
+	for i := range g {
+		w := biggsEXP6BFGSCentralLarger(biggsEXP6BFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = biggsEXP6BFGSCentralLarger(measure, (biggsEXP6BFGSCentralAbs(g[i])+e[i])*w)
+		floor = biggsEXP6BFGSCentralLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// biggsEXP6BFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func biggsEXP6BFGSCentralStepWithin(s, x *[6]float64, tol float64) bool {
+	for i := range s {
+		if !(biggsEXP6BFGSCentralAbs(s[i]) <= tol*(biggsEXP6BFGSCentralAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // biggsEXP6BFGSCentralTinyStep returns the longest t for which the step t·d from x passes the

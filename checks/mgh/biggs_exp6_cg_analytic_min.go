@@ -190,11 +190,25 @@ func biggsEXP6CGAnalyticMinimize(x0 [6]float64, lim BiggsEXP6CGAnalyticLimits) b
 	t, slope := float64(biggsEXP6CGAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                     // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                           // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                              // whether g and e at x come from biggsEXP6CGAnalyticConfirmGradient
+	confirmed := false                                              // whether g and e at x come from biggsEXP6CGAnalyticConfirmGradient or settle
 	stalled := false                                                // whether the run can make no more progress at x
 	retried := -1                                                   // the iteration whose stall was retried with recalibrated differences
+	verify := biggsEXP6CGAnalyticVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != biggsEXP6CGAnalyticVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see biggsEXP6CGAnalyticConfirmGradient and settle).
+			calls, ok := biggsEXP6CGAnalyticSettle(&x, fx, &g, &e, &diffs, verify == biggsEXP6CGAnalyticVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(BiggsEXP6CGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !biggsEXP6CGAnalyticFiniteVec(&g) {
+				return best.ending(BiggsEXP6CGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = biggsEXP6CGAnalyticVerifyNothing, true
+		case !confirmed:
 			biggsEXP6CGAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := biggsEXP6CGAnalyticGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func biggsEXP6CGAnalyticMinimize(x0 [6]float64, lim BiggsEXP6CGAnalyticLimits) b
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := biggsEXP6CGAnalyticConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(BiggsEXP6CGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !biggsEXP6CGAnalyticFiniteVec(&g) {
-				return best.ending(BiggsEXP6CGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = biggsEXP6CGAnalyticVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func biggsEXP6CGAnalyticMinimize(x0 [6]float64, lim BiggsEXP6CGAnalyticLimits) b
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if biggsEXP6CGAnalyticStepWithin(&s, &x, lim.Step) {
-				calls, ok := biggsEXP6CGAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(BiggsEXP6CGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !biggsEXP6CGAnalyticFiniteVec(&g) {
-					return best.ending(BiggsEXP6CGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = biggsEXP6CGAnalyticVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func biggsEXP6CGAnalyticMinimize(x0 [6]float64, lim BiggsEXP6CGAnalyticLimits) b
 			case found.rising:
 				end = BiggsEXP6CGAnalyticNoDecrease
 			case found.end == biggsEXP6CGAnalyticSearchTiny && canSettle:
-				calls, ok := biggsEXP6CGAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(BiggsEXP6CGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !biggsEXP6CGAnalyticFiniteVec(&g) {
-					return best.ending(BiggsEXP6CGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = biggsEXP6CGAnalyticVerifyStall, true
 				continue
 			case found.end == biggsEXP6CGAnalyticSearchTiny:
 				end = BiggsEXP6CGAnalyticStalled
@@ -482,41 +470,30 @@ func biggsEXP6CGAnalyticScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
-// biggsEXP6CGAnalyticGradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func biggsEXP6CGAnalyticGradientError(x *[6]float64, fx float64, g, e *[6]float64, diffs *biggsEXP6CGAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	biggsEXP6CGAnalyticVerifyNothing = iota
+	biggsEXP6CGAnalyticVerifyPass    // a difference gradient passed the test
+	biggsEXP6CGAnalyticVerifyStall   // no step makes progress
+)
 
-// biggsEXP6CGAnalyticGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func biggsEXP6CGAnalyticGradientMeasure(g, e, x *[6]float64, fx float64) (measure, floor float64) {
-	scale := biggsEXP6CGAnalyticLarger(biggsEXP6CGAnalyticAbs(fx), 1)
-	for i := range g {
-		w := biggsEXP6CGAnalyticLarger(biggsEXP6CGAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = biggsEXP6CGAnalyticLarger(measure, (biggsEXP6CGAnalyticAbs(g[i])+e[i])*w)
-		floor = biggsEXP6CGAnalyticLarger(floor, e[i]*w)
+// biggsEXP6CGAnalyticSettle prepares a verdict at x: with differences it confirms the
+// gradient (biggsEXP6CGAnalyticConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (biggsEXP6CGAnalyticRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func biggsEXP6CGAnalyticSettle(x *[6]float64, fx float64, g, e *[6]float64, diffs *biggsEXP6CGAnalyticDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if biggsEXP6CGAnalyticDerivativeCost > 0 {
+		spent, ok := biggsEXP6CGAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// biggsEXP6CGAnalyticAbs returns |v|.
-func biggsEXP6CGAnalyticAbs(v float64) float64 {
-	if v < 0 {
-		return -v
+	if stall {
+		biggsEXP6CGAnalyticRoundingFloor(x, g, e, diffs)
 	}
-	return v
+	return calls, true
 }
 
 // biggsEXP6CGAnalyticConfirmGradient recomputes a difference gradient at x before the run is
@@ -549,33 +526,20 @@ func biggsEXP6CGAnalyticConfirmGradient(x *[6]float64, fx float64, g, e *[6]floa
 	return calls + 2*biggsEXP6CGAnalyticDerivativeCost, true
 }
 
-// biggsEXP6CGAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func biggsEXP6CGAnalyticStepWithin(s, x *[6]float64, tol float64) bool {
-	for i := range s {
-		if !(biggsEXP6CGAnalyticAbs(s[i]) <= tol*(biggsEXP6CGAnalyticAbs(x[i])+1)) {
-			return false
-		}
+// biggsEXP6CGAnalyticGradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func biggsEXP6CGAnalyticGradientError(x *[6]float64, fx float64, g, e *[6]float64, diffs *biggsEXP6CGAnalyticDifferences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// biggsEXP6CGAnalyticSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (biggsEXP6CGAnalyticConfirmGradient), then it adds to each error
-// bound the rounding floor of x (biggsEXP6CGAnalyticRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func biggsEXP6CGAnalyticSettle(x *[6]float64, fx float64, g, e *[6]float64, diffs *biggsEXP6CGAnalyticDifferences, budget int) (int, bool) {
-	calls := 0
-	if biggsEXP6CGAnalyticDerivativeCost > 0 {
-		spent, ok := biggsEXP6CGAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// biggsEXP6CGAnalyticAbs returns |v|.
+func biggsEXP6CGAnalyticAbs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	biggsEXP6CGAnalyticRoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // biggsEXP6CGAnalyticRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -618,6 +582,39 @@ func biggsEXP6CGAnalyticProbeStep(xi, h float64) (float64, float64) {
 // biggsEXP6CGAnalyticSquareRoot returns √v.
 func biggsEXP6CGAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// biggsEXP6CGAnalyticGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func biggsEXP6CGAnalyticGradientMeasure(g, e, x *[6]float64, fx float64) (measure, floor float64) {
+	scale := biggsEXP6CGAnalyticLarger(biggsEXP6CGAnalyticAbs(fx), 1)
+	for i := range g {
+		w := biggsEXP6CGAnalyticLarger(biggsEXP6CGAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = biggsEXP6CGAnalyticLarger(measure, (biggsEXP6CGAnalyticAbs(g[i])+e[i])*w)
+		floor = biggsEXP6CGAnalyticLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// biggsEXP6CGAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func biggsEXP6CGAnalyticStepWithin(s, x *[6]float64, tol float64) bool {
+	for i := range s {
+		if !(biggsEXP6CGAnalyticAbs(s[i]) <= tol*(biggsEXP6CGAnalyticAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // biggsEXP6CGAnalyticTinyStep returns the longest t for which the step t·d from x passes the

@@ -190,11 +190,25 @@ func biggsEXP6CGCentralMinimize(x0 [6]float64, lim BiggsEXP6CGCentralLimits) big
 	t, slope := float64(biggsEXP6CGCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                    // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                          // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                             // whether g and e at x come from biggsEXP6CGCentralConfirmGradient
+	confirmed := false                                             // whether g and e at x come from biggsEXP6CGCentralConfirmGradient or settle
 	stalled := false                                               // whether the run can make no more progress at x
 	retried := -1                                                  // the iteration whose stall was retried with recalibrated differences
+	verify := biggsEXP6CGCentralVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != biggsEXP6CGCentralVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see biggsEXP6CGCentralConfirmGradient and settle).
+			calls, ok := biggsEXP6CGCentralSettle(&x, fx, &g, &e, &diffs, verify == biggsEXP6CGCentralVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(BiggsEXP6CGCentralOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !biggsEXP6CGCentralFiniteVec(&g) {
+				return best.ending(BiggsEXP6CGCentralNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = biggsEXP6CGCentralVerifyNothing, true
+		case !confirmed:
 			biggsEXP6CGCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := biggsEXP6CGCentralGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func biggsEXP6CGCentralMinimize(x0 [6]float64, lim BiggsEXP6CGCentralLimits) big
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := biggsEXP6CGCentralConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(BiggsEXP6CGCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !biggsEXP6CGCentralFiniteVec(&g) {
-				return best.ending(BiggsEXP6CGCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = biggsEXP6CGCentralVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func biggsEXP6CGCentralMinimize(x0 [6]float64, lim BiggsEXP6CGCentralLimits) big
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if biggsEXP6CGCentralStepWithin(&s, &x, lim.Step) {
-				calls, ok := biggsEXP6CGCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(BiggsEXP6CGCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !biggsEXP6CGCentralFiniteVec(&g) {
-					return best.ending(BiggsEXP6CGCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = biggsEXP6CGCentralVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func biggsEXP6CGCentralMinimize(x0 [6]float64, lim BiggsEXP6CGCentralLimits) big
 			case found.rising:
 				end = BiggsEXP6CGCentralNoDecrease
 			case found.end == biggsEXP6CGCentralSearchTiny && canSettle:
-				calls, ok := biggsEXP6CGCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(BiggsEXP6CGCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !biggsEXP6CGCentralFiniteVec(&g) {
-					return best.ending(BiggsEXP6CGCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = biggsEXP6CGCentralVerifyStall, true
 				continue
 			case found.end == biggsEXP6CGCentralSearchTiny:
 				end = BiggsEXP6CGCentralStalled
@@ -615,37 +603,30 @@ func biggsEXP6CGCentralScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
-// biggsEXP6CGCentralGradientError bounds each central difference's error by twice its
-// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
-// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
-// in forwardError).
-func biggsEXP6CGCentralGradientError(x *[6]float64, fx float64, g, e *[6]float64, diffs *biggsEXP6CGCentralDifferences) {
-	noise := biggsEXP6CGCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h := diffs.ratio[i] * biggsEXP6CGCentralLarger(1, biggsEXP6CGCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	biggsEXP6CGCentralVerifyNothing = iota
+	biggsEXP6CGCentralVerifyPass    // a difference gradient passed the test
+	biggsEXP6CGCentralVerifyStall   // no step makes progress
+)
 
-// biggsEXP6CGCentralGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func biggsEXP6CGCentralGradientMeasure(g, e, x *[6]float64, fx float64) (measure, floor float64) {
-	scale := biggsEXP6CGCentralLarger(biggsEXP6CGCentralAbs(fx), 1)
-	for i := range g {
-		w := biggsEXP6CGCentralLarger(biggsEXP6CGCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = biggsEXP6CGCentralLarger(measure, (biggsEXP6CGCentralAbs(g[i])+e[i])*w)
-		floor = biggsEXP6CGCentralLarger(floor, e[i]*w)
+// biggsEXP6CGCentralSettle prepares a verdict at x: with differences it confirms the
+// gradient (biggsEXP6CGCentralConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (biggsEXP6CGCentralRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func biggsEXP6CGCentralSettle(x *[6]float64, fx float64, g, e *[6]float64, diffs *biggsEXP6CGCentralDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if biggsEXP6CGCentralDerivativeCost > 0 {
+		spent, ok := biggsEXP6CGCentralConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
+	if stall {
+		biggsEXP6CGCentralRoundingFloor(x, g, e, diffs)
+	}
+	return calls, true
 }
 
 // biggsEXP6CGCentralConfirmGradient recomputes a difference gradient at x before the run is
@@ -678,33 +659,16 @@ func biggsEXP6CGCentralConfirmGradient(x *[6]float64, fx float64, g, e *[6]float
 	return calls + 2*biggsEXP6CGCentralDerivativeCost, true
 }
 
-// biggsEXP6CGCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func biggsEXP6CGCentralStepWithin(s, x *[6]float64, tol float64) bool {
-	for i := range s {
-		if !(biggsEXP6CGCentralAbs(s[i]) <= tol*(biggsEXP6CGCentralAbs(x[i])+1)) {
-			return false
-		}
+// biggsEXP6CGCentralGradientError bounds each central difference's error by twice its
+// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
+// in forwardError).
+func biggsEXP6CGCentralGradientError(x *[6]float64, fx float64, g, e *[6]float64, diffs *biggsEXP6CGCentralDifferences) {
+	noise := biggsEXP6CGCentralNoiseLevel(x, fx, g)
+	for i := range e {
+		h := diffs.ratio[i] * biggsEXP6CGCentralLarger(1, biggsEXP6CGCentralAbs(x[i]))
+		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
 	}
-	return true
-}
-
-// biggsEXP6CGCentralSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (biggsEXP6CGCentralConfirmGradient), then it adds to each error
-// bound the rounding floor of x (biggsEXP6CGCentralRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func biggsEXP6CGCentralSettle(x *[6]float64, fx float64, g, e *[6]float64, diffs *biggsEXP6CGCentralDifferences, budget int) (int, bool) {
-	calls := 0
-	if biggsEXP6CGCentralDerivativeCost > 0 {
-		spent, ok := biggsEXP6CGCentralConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
-	}
-	biggsEXP6CGCentralRoundingFloor(x, g, e, diffs)
-	return calls, true
 }
 
 // biggsEXP6CGCentralRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -725,6 +689,39 @@ func biggsEXP6CGCentralRoundingFloor(x, g, e *[6]float64, diffs *biggsEXP6CGCent
 // calibration, which biggsEXP6CGCentralConfirmGradient has just made at x.
 func biggsEXP6CGCentralDiagonalCurvature(x, g *[6]float64, diffs *biggsEXP6CGCentralDifferences, h *[6]float64) {
 	*h = diffs.second
+}
+
+// biggsEXP6CGCentralGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func biggsEXP6CGCentralGradientMeasure(g, e, x *[6]float64, fx float64) (measure, floor float64) {
+	scale := biggsEXP6CGCentralLarger(biggsEXP6CGCentralAbs(fx), 1)
+	for i := range g {
+		w := biggsEXP6CGCentralLarger(biggsEXP6CGCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = biggsEXP6CGCentralLarger(measure, (biggsEXP6CGCentralAbs(g[i])+e[i])*w)
+		floor = biggsEXP6CGCentralLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// biggsEXP6CGCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func biggsEXP6CGCentralStepWithin(s, x *[6]float64, tol float64) bool {
+	for i := range s {
+		if !(biggsEXP6CGCentralAbs(s[i]) <= tol*(biggsEXP6CGCentralAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // biggsEXP6CGCentralTinyStep returns the longest t for which the step t·d from x passes the

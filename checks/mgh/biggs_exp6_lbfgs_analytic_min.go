@@ -191,11 +191,25 @@ func biggsEXP6LBFGSAnalyticMinimize(x0 [6]float64, lim BiggsEXP6LBFGSAnalyticLim
 	t, slope := float64(biggsEXP6LBFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                        // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                              // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                 // whether g and e at x come from biggsEXP6LBFGSAnalyticConfirmGradient
+	confirmed := false                                                 // whether g and e at x come from biggsEXP6LBFGSAnalyticConfirmGradient or settle
 	stalled := false                                                   // whether the run can make no more progress at x
 	retried := -1                                                      // the iteration whose stall was retried with recalibrated differences
+	verify := biggsEXP6LBFGSAnalyticVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != biggsEXP6LBFGSAnalyticVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see biggsEXP6LBFGSAnalyticConfirmGradient and settle).
+			calls, ok := biggsEXP6LBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, verify == biggsEXP6LBFGSAnalyticVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(BiggsEXP6LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !biggsEXP6LBFGSAnalyticFiniteVec(&g) {
+				return best.ending(BiggsEXP6LBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = biggsEXP6LBFGSAnalyticVerifyNothing, true
+		case !confirmed:
 			biggsEXP6LBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := biggsEXP6LBFGSAnalyticGradientMeasure(&g, &e, &x, fx)
@@ -213,17 +227,7 @@ func biggsEXP6LBFGSAnalyticMinimize(x0 [6]float64, lim BiggsEXP6LBFGSAnalyticLim
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := biggsEXP6LBFGSAnalyticConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(BiggsEXP6LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !biggsEXP6LBFGSAnalyticFiniteVec(&g) {
-				return best.ending(BiggsEXP6LBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = biggsEXP6LBFGSAnalyticVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -241,15 +245,7 @@ func biggsEXP6LBFGSAnalyticMinimize(x0 [6]float64, lim BiggsEXP6LBFGSAnalyticLim
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if biggsEXP6LBFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				calls, ok := biggsEXP6LBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(BiggsEXP6LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !biggsEXP6LBFGSAnalyticFiniteVec(&g) {
-					return best.ending(BiggsEXP6LBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = biggsEXP6LBFGSAnalyticVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -290,15 +286,7 @@ func biggsEXP6LBFGSAnalyticMinimize(x0 [6]float64, lim BiggsEXP6LBFGSAnalyticLim
 			case found.rising:
 				end = BiggsEXP6LBFGSAnalyticNoDecrease
 			case found.end == biggsEXP6LBFGSAnalyticSearchTiny && canSettle:
-				calls, ok := biggsEXP6LBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(BiggsEXP6LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !biggsEXP6LBFGSAnalyticFiniteVec(&g) {
-					return best.ending(BiggsEXP6LBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = biggsEXP6LBFGSAnalyticVerifyStall, true
 				continue
 			case found.end == biggsEXP6LBFGSAnalyticSearchTiny:
 				end = BiggsEXP6LBFGSAnalyticStalled
@@ -516,51 +504,30 @@ func biggsEXP6LBFGSAnalyticCurvatureSafe(s, y *[6]float64) bool {
 	return sy > 0 && (sy/biggsEXP6LBFGSAnalyticDot(s, s))*(sy/biggsEXP6LBFGSAnalyticDot(y, y)) > biggsEXP6LBFGSAnalyticUnitRoundoff
 }
 
-// biggsEXP6LBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func biggsEXP6LBFGSAnalyticGradientError(x *[6]float64, fx float64, g, e *[6]float64, diffs *biggsEXP6LBFGSAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	biggsEXP6LBFGSAnalyticVerifyNothing = iota
+	biggsEXP6LBFGSAnalyticVerifyPass    // a difference gradient passed the test
+	biggsEXP6LBFGSAnalyticVerifyStall   // no step makes progress
+)
 
-// biggsEXP6LBFGSAnalyticGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func biggsEXP6LBFGSAnalyticGradientMeasure(g, e, x *[6]float64, fx float64) (measure, floor float64) {
-	scale := biggsEXP6LBFGSAnalyticLarger(biggsEXP6LBFGSAnalyticAbs(fx), 1)
-	for i := range g {
-		w := biggsEXP6LBFGSAnalyticLarger(biggsEXP6LBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = biggsEXP6LBFGSAnalyticLarger(measure, (biggsEXP6LBFGSAnalyticAbs(g[i])+e[i])*w)
-		floor = biggsEXP6LBFGSAnalyticLarger(floor, e[i]*w)
+// biggsEXP6LBFGSAnalyticSettle prepares a verdict at x: with differences it confirms the
+// gradient (biggsEXP6LBFGSAnalyticConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (biggsEXP6LBFGSAnalyticRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func biggsEXP6LBFGSAnalyticSettle(x *[6]float64, fx float64, g, e *[6]float64, diffs *biggsEXP6LBFGSAnalyticDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if biggsEXP6LBFGSAnalyticDerivativeCost > 0 {
+		spent, ok := biggsEXP6LBFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// biggsEXP6LBFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func biggsEXP6LBFGSAnalyticLarger(a, b float64) float64 {
-	if a > b || a != a {
-		return a
+	if stall {
+		biggsEXP6LBFGSAnalyticRoundingFloor(x, g, e, diffs)
 	}
-	return b
-}
-
-// biggsEXP6LBFGSAnalyticAbs returns |v|.
-func biggsEXP6LBFGSAnalyticAbs(v float64) float64 {
-	if v < 0 {
-		return -v
-	}
-	return v
+	return calls, true
 }
 
 // biggsEXP6LBFGSAnalyticConfirmGradient recomputes a difference gradient at x before the run is
@@ -593,33 +560,20 @@ func biggsEXP6LBFGSAnalyticConfirmGradient(x *[6]float64, fx float64, g, e *[6]f
 	return calls + 2*biggsEXP6LBFGSAnalyticDerivativeCost, true
 }
 
-// biggsEXP6LBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func biggsEXP6LBFGSAnalyticStepWithin(s, x *[6]float64, tol float64) bool {
-	for i := range s {
-		if !(biggsEXP6LBFGSAnalyticAbs(s[i]) <= tol*(biggsEXP6LBFGSAnalyticAbs(x[i])+1)) {
-			return false
-		}
+// biggsEXP6LBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func biggsEXP6LBFGSAnalyticGradientError(x *[6]float64, fx float64, g, e *[6]float64, diffs *biggsEXP6LBFGSAnalyticDifferences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// biggsEXP6LBFGSAnalyticSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (biggsEXP6LBFGSAnalyticConfirmGradient), then it adds to each error
-// bound the rounding floor of x (biggsEXP6LBFGSAnalyticRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func biggsEXP6LBFGSAnalyticSettle(x *[6]float64, fx float64, g, e *[6]float64, diffs *biggsEXP6LBFGSAnalyticDifferences, budget int) (int, bool) {
-	calls := 0
-	if biggsEXP6LBFGSAnalyticDerivativeCost > 0 {
-		spent, ok := biggsEXP6LBFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// biggsEXP6LBFGSAnalyticAbs returns |v|.
+func biggsEXP6LBFGSAnalyticAbs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	biggsEXP6LBFGSAnalyticRoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // biggsEXP6LBFGSAnalyticRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -662,6 +616,49 @@ func biggsEXP6LBFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
 // biggsEXP6LBFGSAnalyticSquareRoot returns √v.
 func biggsEXP6LBFGSAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// biggsEXP6LBFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func biggsEXP6LBFGSAnalyticLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// biggsEXP6LBFGSAnalyticGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func biggsEXP6LBFGSAnalyticGradientMeasure(g, e, x *[6]float64, fx float64) (measure, floor float64) {
+	scale := biggsEXP6LBFGSAnalyticLarger(biggsEXP6LBFGSAnalyticAbs(fx), 1)
+	for i := range g {
+		w := biggsEXP6LBFGSAnalyticLarger(biggsEXP6LBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = biggsEXP6LBFGSAnalyticLarger(measure, (biggsEXP6LBFGSAnalyticAbs(g[i])+e[i])*w)
+		floor = biggsEXP6LBFGSAnalyticLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// biggsEXP6LBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func biggsEXP6LBFGSAnalyticStepWithin(s, x *[6]float64, tol float64) bool {
+	for i := range s {
+		if !(biggsEXP6LBFGSAnalyticAbs(s[i]) <= tol*(biggsEXP6LBFGSAnalyticAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // biggsEXP6LBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the

@@ -191,11 +191,25 @@ func biggsEXP6LBFGSCentralMinimize(x0 [6]float64, lim BiggsEXP6LBFGSCentralLimit
 	t, slope := float64(biggsEXP6LBFGSCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                       // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                             // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                // whether g and e at x come from biggsEXP6LBFGSCentralConfirmGradient
+	confirmed := false                                                // whether g and e at x come from biggsEXP6LBFGSCentralConfirmGradient or settle
 	stalled := false                                                  // whether the run can make no more progress at x
 	retried := -1                                                     // the iteration whose stall was retried with recalibrated differences
+	verify := biggsEXP6LBFGSCentralVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != biggsEXP6LBFGSCentralVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see biggsEXP6LBFGSCentralConfirmGradient and settle).
+			calls, ok := biggsEXP6LBFGSCentralSettle(&x, fx, &g, &e, &diffs, verify == biggsEXP6LBFGSCentralVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(BiggsEXP6LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !biggsEXP6LBFGSCentralFiniteVec(&g) {
+				return best.ending(BiggsEXP6LBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = biggsEXP6LBFGSCentralVerifyNothing, true
+		case !confirmed:
 			biggsEXP6LBFGSCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := biggsEXP6LBFGSCentralGradientMeasure(&g, &e, &x, fx)
@@ -213,17 +227,7 @@ func biggsEXP6LBFGSCentralMinimize(x0 [6]float64, lim BiggsEXP6LBFGSCentralLimit
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := biggsEXP6LBFGSCentralConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(BiggsEXP6LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !biggsEXP6LBFGSCentralFiniteVec(&g) {
-				return best.ending(BiggsEXP6LBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = biggsEXP6LBFGSCentralVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -241,15 +245,7 @@ func biggsEXP6LBFGSCentralMinimize(x0 [6]float64, lim BiggsEXP6LBFGSCentralLimit
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if biggsEXP6LBFGSCentralStepWithin(&s, &x, lim.Step) {
-				calls, ok := biggsEXP6LBFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(BiggsEXP6LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !biggsEXP6LBFGSCentralFiniteVec(&g) {
-					return best.ending(BiggsEXP6LBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = biggsEXP6LBFGSCentralVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -290,15 +286,7 @@ func biggsEXP6LBFGSCentralMinimize(x0 [6]float64, lim BiggsEXP6LBFGSCentralLimit
 			case found.rising:
 				end = BiggsEXP6LBFGSCentralNoDecrease
 			case found.end == biggsEXP6LBFGSCentralSearchTiny && canSettle:
-				calls, ok := biggsEXP6LBFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(BiggsEXP6LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !biggsEXP6LBFGSCentralFiniteVec(&g) {
-					return best.ending(BiggsEXP6LBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = biggsEXP6LBFGSCentralVerifyStall, true
 				continue
 			case found.end == biggsEXP6LBFGSCentralSearchTiny:
 				end = BiggsEXP6LBFGSCentralStalled
@@ -659,37 +647,30 @@ func biggsEXP6LBFGSCentralCurvatureSafe(s, y *[6]float64) bool {
 	return sy > 0 && (sy/biggsEXP6LBFGSCentralDot(s, s))*(sy/biggsEXP6LBFGSCentralDot(y, y)) > biggsEXP6LBFGSCentralUnitRoundoff
 }
 
-// biggsEXP6LBFGSCentralGradientError bounds each central difference's error by twice its
-// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
-// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
-// in forwardError).
-func biggsEXP6LBFGSCentralGradientError(x *[6]float64, fx float64, g, e *[6]float64, diffs *biggsEXP6LBFGSCentralDifferences) {
-	noise := biggsEXP6LBFGSCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h := diffs.ratio[i] * biggsEXP6LBFGSCentralLarger(1, biggsEXP6LBFGSCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	biggsEXP6LBFGSCentralVerifyNothing = iota
+	biggsEXP6LBFGSCentralVerifyPass    // a difference gradient passed the test
+	biggsEXP6LBFGSCentralVerifyStall   // no step makes progress
+)
 
-// biggsEXP6LBFGSCentralGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func biggsEXP6LBFGSCentralGradientMeasure(g, e, x *[6]float64, fx float64) (measure, floor float64) {
-	scale := biggsEXP6LBFGSCentralLarger(biggsEXP6LBFGSCentralAbs(fx), 1)
-	for i := range g {
-		w := biggsEXP6LBFGSCentralLarger(biggsEXP6LBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = biggsEXP6LBFGSCentralLarger(measure, (biggsEXP6LBFGSCentralAbs(g[i])+e[i])*w)
-		floor = biggsEXP6LBFGSCentralLarger(floor, e[i]*w)
+// biggsEXP6LBFGSCentralSettle prepares a verdict at x: with differences it confirms the
+// gradient (biggsEXP6LBFGSCentralConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (biggsEXP6LBFGSCentralRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func biggsEXP6LBFGSCentralSettle(x *[6]float64, fx float64, g, e *[6]float64, diffs *biggsEXP6LBFGSCentralDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if biggsEXP6LBFGSCentralDerivativeCost > 0 {
+		spent, ok := biggsEXP6LBFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
+	if stall {
+		biggsEXP6LBFGSCentralRoundingFloor(x, g, e, diffs)
+	}
+	return calls, true
 }
 
 // biggsEXP6LBFGSCentralConfirmGradient recomputes a difference gradient at x before the run is
@@ -722,33 +703,16 @@ func biggsEXP6LBFGSCentralConfirmGradient(x *[6]float64, fx float64, g, e *[6]fl
 	return calls + 2*biggsEXP6LBFGSCentralDerivativeCost, true
 }
 
-// biggsEXP6LBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func biggsEXP6LBFGSCentralStepWithin(s, x *[6]float64, tol float64) bool {
-	for i := range s {
-		if !(biggsEXP6LBFGSCentralAbs(s[i]) <= tol*(biggsEXP6LBFGSCentralAbs(x[i])+1)) {
-			return false
-		}
+// biggsEXP6LBFGSCentralGradientError bounds each central difference's error by twice its
+// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
+// in forwardError).
+func biggsEXP6LBFGSCentralGradientError(x *[6]float64, fx float64, g, e *[6]float64, diffs *biggsEXP6LBFGSCentralDifferences) {
+	noise := biggsEXP6LBFGSCentralNoiseLevel(x, fx, g)
+	for i := range e {
+		h := diffs.ratio[i] * biggsEXP6LBFGSCentralLarger(1, biggsEXP6LBFGSCentralAbs(x[i]))
+		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
 	}
-	return true
-}
-
-// biggsEXP6LBFGSCentralSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (biggsEXP6LBFGSCentralConfirmGradient), then it adds to each error
-// bound the rounding floor of x (biggsEXP6LBFGSCentralRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func biggsEXP6LBFGSCentralSettle(x *[6]float64, fx float64, g, e *[6]float64, diffs *biggsEXP6LBFGSCentralDifferences, budget int) (int, bool) {
-	calls := 0
-	if biggsEXP6LBFGSCentralDerivativeCost > 0 {
-		spent, ok := biggsEXP6LBFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
-	}
-	biggsEXP6LBFGSCentralRoundingFloor(x, g, e, diffs)
-	return calls, true
 }
 
 // biggsEXP6LBFGSCentralRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -769,6 +733,39 @@ func biggsEXP6LBFGSCentralRoundingFloor(x, g, e *[6]float64, diffs *biggsEXP6LBF
 // calibration, which biggsEXP6LBFGSCentralConfirmGradient has just made at x.
 func biggsEXP6LBFGSCentralDiagonalCurvature(x, g *[6]float64, diffs *biggsEXP6LBFGSCentralDifferences, h *[6]float64) {
 	*h = diffs.second
+}
+
+// biggsEXP6LBFGSCentralGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func biggsEXP6LBFGSCentralGradientMeasure(g, e, x *[6]float64, fx float64) (measure, floor float64) {
+	scale := biggsEXP6LBFGSCentralLarger(biggsEXP6LBFGSCentralAbs(fx), 1)
+	for i := range g {
+		w := biggsEXP6LBFGSCentralLarger(biggsEXP6LBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = biggsEXP6LBFGSCentralLarger(measure, (biggsEXP6LBFGSCentralAbs(g[i])+e[i])*w)
+		floor = biggsEXP6LBFGSCentralLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// biggsEXP6LBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func biggsEXP6LBFGSCentralStepWithin(s, x *[6]float64, tol float64) bool {
+	for i := range s {
+		if !(biggsEXP6LBFGSCentralAbs(s[i]) <= tol*(biggsEXP6LBFGSCentralAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // biggsEXP6LBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the

@@ -190,11 +190,25 @@ func box3DBFGSAnalyticMinimize(x0 [3]float64, lim Box3DBFGSAnalyticLimits) box3D
 	t, slope := float64(box3DBFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                   // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                         // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                            // whether g and e at x come from box3DBFGSAnalyticConfirmGradient
+	confirmed := false                                            // whether g and e at x come from box3DBFGSAnalyticConfirmGradient or settle
 	stalled := false                                              // whether the run can make no more progress at x
 	retried := -1                                                 // the iteration whose stall was retried with recalibrated differences
+	verify := box3DBFGSAnalyticVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != box3DBFGSAnalyticVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see box3DBFGSAnalyticConfirmGradient and settle).
+			calls, ok := box3DBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, verify == box3DBFGSAnalyticVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(Box3DBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !box3DBFGSAnalyticFiniteVec(&g) {
+				return best.ending(Box3DBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = box3DBFGSAnalyticVerifyNothing, true
+		case !confirmed:
 			box3DBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := box3DBFGSAnalyticGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func box3DBFGSAnalyticMinimize(x0 [3]float64, lim Box3DBFGSAnalyticLimits) box3D
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := box3DBFGSAnalyticConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(Box3DBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !box3DBFGSAnalyticFiniteVec(&g) {
-				return best.ending(Box3DBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = box3DBFGSAnalyticVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func box3DBFGSAnalyticMinimize(x0 [3]float64, lim Box3DBFGSAnalyticLimits) box3D
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if box3DBFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				calls, ok := box3DBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(Box3DBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !box3DBFGSAnalyticFiniteVec(&g) {
-					return best.ending(Box3DBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = box3DBFGSAnalyticVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func box3DBFGSAnalyticMinimize(x0 [3]float64, lim Box3DBFGSAnalyticLimits) box3D
 			case found.rising:
 				end = Box3DBFGSAnalyticNoDecrease
 			case found.end == box3DBFGSAnalyticSearchTiny && canSettle:
-				calls, ok := box3DBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(Box3DBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !box3DBFGSAnalyticFiniteVec(&g) {
-					return best.ending(Box3DBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = box3DBFGSAnalyticVerifyStall, true
 				continue
 			case found.end == box3DBFGSAnalyticSearchTiny:
 				end = Box3DBFGSAnalyticStalled
@@ -490,51 +478,30 @@ func box3DBFGSAnalyticCurvatureSafe(s, y *[3]float64) bool {
 	return sy > 0 && (sy/box3DBFGSAnalyticDot(s, s))*(sy/box3DBFGSAnalyticDot(y, y)) > box3DBFGSAnalyticUnitRoundoff
 }
 
-// box3DBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func box3DBFGSAnalyticGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *box3DBFGSAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	box3DBFGSAnalyticVerifyNothing = iota
+	box3DBFGSAnalyticVerifyPass    // a difference gradient passed the test
+	box3DBFGSAnalyticVerifyStall   // no step makes progress
+)
 
-// box3DBFGSAnalyticGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func box3DBFGSAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
-	scale := box3DBFGSAnalyticLarger(box3DBFGSAnalyticAbs(fx), 1)
-	for i := range g {
-		w := box3DBFGSAnalyticLarger(box3DBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = box3DBFGSAnalyticLarger(measure, (box3DBFGSAnalyticAbs(g[i])+e[i])*w)
-		floor = box3DBFGSAnalyticLarger(floor, e[i]*w)
+// box3DBFGSAnalyticSettle prepares a verdict at x: with differences it confirms the
+// gradient (box3DBFGSAnalyticConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (box3DBFGSAnalyticRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func box3DBFGSAnalyticSettle(x *[3]float64, fx float64, g, e *[3]float64, diffs *box3DBFGSAnalyticDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if box3DBFGSAnalyticDerivativeCost > 0 {
+		spent, ok := box3DBFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// box3DBFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func box3DBFGSAnalyticLarger(a, b float64) float64 {
-	if a > b || a != a {
-		return a
+	if stall {
+		box3DBFGSAnalyticRoundingFloor(x, g, e, diffs)
 	}
-	return b
-}
-
-// box3DBFGSAnalyticAbs returns |v|.
-func box3DBFGSAnalyticAbs(v float64) float64 {
-	if v < 0 {
-		return -v
-	}
-	return v
+	return calls, true
 }
 
 // box3DBFGSAnalyticConfirmGradient recomputes a difference gradient at x before the run is
@@ -567,33 +534,20 @@ func box3DBFGSAnalyticConfirmGradient(x *[3]float64, fx float64, g, e *[3]float6
 	return calls + 2*box3DBFGSAnalyticDerivativeCost, true
 }
 
-// box3DBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func box3DBFGSAnalyticStepWithin(s, x *[3]float64, tol float64) bool {
-	for i := range s {
-		if !(box3DBFGSAnalyticAbs(s[i]) <= tol*(box3DBFGSAnalyticAbs(x[i])+1)) {
-			return false
-		}
+// box3DBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func box3DBFGSAnalyticGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *box3DBFGSAnalyticDifferences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// box3DBFGSAnalyticSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (box3DBFGSAnalyticConfirmGradient), then it adds to each error
-// bound the rounding floor of x (box3DBFGSAnalyticRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func box3DBFGSAnalyticSettle(x *[3]float64, fx float64, g, e *[3]float64, diffs *box3DBFGSAnalyticDifferences, budget int) (int, bool) {
-	calls := 0
-	if box3DBFGSAnalyticDerivativeCost > 0 {
-		spent, ok := box3DBFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// box3DBFGSAnalyticAbs returns |v|.
+func box3DBFGSAnalyticAbs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	box3DBFGSAnalyticRoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // box3DBFGSAnalyticRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -636,6 +590,49 @@ func box3DBFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
 // box3DBFGSAnalyticSquareRoot returns √v.
 func box3DBFGSAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// box3DBFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func box3DBFGSAnalyticLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// box3DBFGSAnalyticGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func box3DBFGSAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
+	scale := box3DBFGSAnalyticLarger(box3DBFGSAnalyticAbs(fx), 1)
+	for i := range g {
+		w := box3DBFGSAnalyticLarger(box3DBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = box3DBFGSAnalyticLarger(measure, (box3DBFGSAnalyticAbs(g[i])+e[i])*w)
+		floor = box3DBFGSAnalyticLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// box3DBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func box3DBFGSAnalyticStepWithin(s, x *[3]float64, tol float64) bool {
+	for i := range s {
+		if !(box3DBFGSAnalyticAbs(s[i]) <= tol*(box3DBFGSAnalyticAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // box3DBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the

@@ -190,11 +190,25 @@ func box3DBFGSCentralMinimize(x0 [3]float64, lim Box3DBFGSCentralLimits) box3DBF
 	t, slope := float64(box3DBFGSCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                  // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                        // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                           // whether g and e at x come from box3DBFGSCentralConfirmGradient
+	confirmed := false                                           // whether g and e at x come from box3DBFGSCentralConfirmGradient or settle
 	stalled := false                                             // whether the run can make no more progress at x
 	retried := -1                                                // the iteration whose stall was retried with recalibrated differences
+	verify := box3DBFGSCentralVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != box3DBFGSCentralVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see box3DBFGSCentralConfirmGradient and settle).
+			calls, ok := box3DBFGSCentralSettle(&x, fx, &g, &e, &diffs, verify == box3DBFGSCentralVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(Box3DBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !box3DBFGSCentralFiniteVec(&g) {
+				return best.ending(Box3DBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = box3DBFGSCentralVerifyNothing, true
+		case !confirmed:
 			box3DBFGSCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := box3DBFGSCentralGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func box3DBFGSCentralMinimize(x0 [3]float64, lim Box3DBFGSCentralLimits) box3DBF
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := box3DBFGSCentralConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(Box3DBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !box3DBFGSCentralFiniteVec(&g) {
-				return best.ending(Box3DBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = box3DBFGSCentralVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func box3DBFGSCentralMinimize(x0 [3]float64, lim Box3DBFGSCentralLimits) box3DBF
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if box3DBFGSCentralStepWithin(&s, &x, lim.Step) {
-				calls, ok := box3DBFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(Box3DBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !box3DBFGSCentralFiniteVec(&g) {
-					return best.ending(Box3DBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = box3DBFGSCentralVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func box3DBFGSCentralMinimize(x0 [3]float64, lim Box3DBFGSCentralLimits) box3DBF
 			case found.rising:
 				end = Box3DBFGSCentralNoDecrease
 			case found.end == box3DBFGSCentralSearchTiny && canSettle:
-				calls, ok := box3DBFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(Box3DBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !box3DBFGSCentralFiniteVec(&g) {
-					return best.ending(Box3DBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = box3DBFGSCentralVerifyStall, true
 				continue
 			case found.end == box3DBFGSCentralSearchTiny:
 				end = Box3DBFGSCentralStalled
@@ -633,37 +621,30 @@ func box3DBFGSCentralCurvatureSafe(s, y *[3]float64) bool {
 	return sy > 0 && (sy/box3DBFGSCentralDot(s, s))*(sy/box3DBFGSCentralDot(y, y)) > box3DBFGSCentralUnitRoundoff
 }
 
-// box3DBFGSCentralGradientError bounds each central difference's error by twice its
-// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
-// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
-// in forwardError).
-func box3DBFGSCentralGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *box3DBFGSCentralDifferences) {
-	noise := box3DBFGSCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h := diffs.ratio[i] * box3DBFGSCentralLarger(1, box3DBFGSCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	box3DBFGSCentralVerifyNothing = iota
+	box3DBFGSCentralVerifyPass    // a difference gradient passed the test
+	box3DBFGSCentralVerifyStall   // no step makes progress
+)
 
-// box3DBFGSCentralGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func box3DBFGSCentralGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
-	scale := box3DBFGSCentralLarger(box3DBFGSCentralAbs(fx), 1)
-	for i := range g {
-		w := box3DBFGSCentralLarger(box3DBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = box3DBFGSCentralLarger(measure, (box3DBFGSCentralAbs(g[i])+e[i])*w)
-		floor = box3DBFGSCentralLarger(floor, e[i]*w)
+// box3DBFGSCentralSettle prepares a verdict at x: with differences it confirms the
+// gradient (box3DBFGSCentralConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (box3DBFGSCentralRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func box3DBFGSCentralSettle(x *[3]float64, fx float64, g, e *[3]float64, diffs *box3DBFGSCentralDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if box3DBFGSCentralDerivativeCost > 0 {
+		spent, ok := box3DBFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
+	if stall {
+		box3DBFGSCentralRoundingFloor(x, g, e, diffs)
+	}
+	return calls, true
 }
 
 // box3DBFGSCentralConfirmGradient recomputes a difference gradient at x before the run is
@@ -696,33 +677,16 @@ func box3DBFGSCentralConfirmGradient(x *[3]float64, fx float64, g, e *[3]float64
 	return calls + 2*box3DBFGSCentralDerivativeCost, true
 }
 
-// box3DBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func box3DBFGSCentralStepWithin(s, x *[3]float64, tol float64) bool {
-	for i := range s {
-		if !(box3DBFGSCentralAbs(s[i]) <= tol*(box3DBFGSCentralAbs(x[i])+1)) {
-			return false
-		}
+// box3DBFGSCentralGradientError bounds each central difference's error by twice its
+// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
+// in forwardError).
+func box3DBFGSCentralGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *box3DBFGSCentralDifferences) {
+	noise := box3DBFGSCentralNoiseLevel(x, fx, g)
+	for i := range e {
+		h := diffs.ratio[i] * box3DBFGSCentralLarger(1, box3DBFGSCentralAbs(x[i]))
+		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
 	}
-	return true
-}
-
-// box3DBFGSCentralSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (box3DBFGSCentralConfirmGradient), then it adds to each error
-// bound the rounding floor of x (box3DBFGSCentralRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func box3DBFGSCentralSettle(x *[3]float64, fx float64, g, e *[3]float64, diffs *box3DBFGSCentralDifferences, budget int) (int, bool) {
-	calls := 0
-	if box3DBFGSCentralDerivativeCost > 0 {
-		spent, ok := box3DBFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
-	}
-	box3DBFGSCentralRoundingFloor(x, g, e, diffs)
-	return calls, true
 }
 
 // box3DBFGSCentralRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -743,6 +707,39 @@ func box3DBFGSCentralRoundingFloor(x, g, e *[3]float64, diffs *box3DBFGSCentralD
 // calibration, which box3DBFGSCentralConfirmGradient has just made at x.
 func box3DBFGSCentralDiagonalCurvature(x, g *[3]float64, diffs *box3DBFGSCentralDifferences, h *[3]float64) {
 	*h = diffs.second
+}
+
+// box3DBFGSCentralGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func box3DBFGSCentralGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
+	scale := box3DBFGSCentralLarger(box3DBFGSCentralAbs(fx), 1)
+	for i := range g {
+		w := box3DBFGSCentralLarger(box3DBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = box3DBFGSCentralLarger(measure, (box3DBFGSCentralAbs(g[i])+e[i])*w)
+		floor = box3DBFGSCentralLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// box3DBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func box3DBFGSCentralStepWithin(s, x *[3]float64, tol float64) bool {
+	for i := range s {
+		if !(box3DBFGSCentralAbs(s[i]) <= tol*(box3DBFGSCentralAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // box3DBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the

@@ -190,11 +190,25 @@ func box3DCGAnalyticMinimize(x0 [3]float64, lim Box3DCGAnalyticLimits) box3DCGAn
 	t, slope := float64(box3DCGAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                 // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                       // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                          // whether g and e at x come from box3DCGAnalyticConfirmGradient
+	confirmed := false                                          // whether g and e at x come from box3DCGAnalyticConfirmGradient or settle
 	stalled := false                                            // whether the run can make no more progress at x
 	retried := -1                                               // the iteration whose stall was retried with recalibrated differences
+	verify := box3DCGAnalyticVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != box3DCGAnalyticVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see box3DCGAnalyticConfirmGradient and settle).
+			calls, ok := box3DCGAnalyticSettle(&x, fx, &g, &e, &diffs, verify == box3DCGAnalyticVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(Box3DCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !box3DCGAnalyticFiniteVec(&g) {
+				return best.ending(Box3DCGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = box3DCGAnalyticVerifyNothing, true
+		case !confirmed:
 			box3DCGAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := box3DCGAnalyticGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func box3DCGAnalyticMinimize(x0 [3]float64, lim Box3DCGAnalyticLimits) box3DCGAn
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := box3DCGAnalyticConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(Box3DCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !box3DCGAnalyticFiniteVec(&g) {
-				return best.ending(Box3DCGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = box3DCGAnalyticVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func box3DCGAnalyticMinimize(x0 [3]float64, lim Box3DCGAnalyticLimits) box3DCGAn
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if box3DCGAnalyticStepWithin(&s, &x, lim.Step) {
-				calls, ok := box3DCGAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(Box3DCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !box3DCGAnalyticFiniteVec(&g) {
-					return best.ending(Box3DCGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = box3DCGAnalyticVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func box3DCGAnalyticMinimize(x0 [3]float64, lim Box3DCGAnalyticLimits) box3DCGAn
 			case found.rising:
 				end = Box3DCGAnalyticNoDecrease
 			case found.end == box3DCGAnalyticSearchTiny && canSettle:
-				calls, ok := box3DCGAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(Box3DCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !box3DCGAnalyticFiniteVec(&g) {
-					return best.ending(Box3DCGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = box3DCGAnalyticVerifyStall, true
 				continue
 			case found.end == box3DCGAnalyticSearchTiny:
 				end = Box3DCGAnalyticStalled
@@ -482,41 +470,30 @@ func box3DCGAnalyticScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
-// box3DCGAnalyticGradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func box3DCGAnalyticGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *box3DCGAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	box3DCGAnalyticVerifyNothing = iota
+	box3DCGAnalyticVerifyPass    // a difference gradient passed the test
+	box3DCGAnalyticVerifyStall   // no step makes progress
+)
 
-// box3DCGAnalyticGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func box3DCGAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
-	scale := box3DCGAnalyticLarger(box3DCGAnalyticAbs(fx), 1)
-	for i := range g {
-		w := box3DCGAnalyticLarger(box3DCGAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = box3DCGAnalyticLarger(measure, (box3DCGAnalyticAbs(g[i])+e[i])*w)
-		floor = box3DCGAnalyticLarger(floor, e[i]*w)
+// box3DCGAnalyticSettle prepares a verdict at x: with differences it confirms the
+// gradient (box3DCGAnalyticConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (box3DCGAnalyticRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func box3DCGAnalyticSettle(x *[3]float64, fx float64, g, e *[3]float64, diffs *box3DCGAnalyticDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if box3DCGAnalyticDerivativeCost > 0 {
+		spent, ok := box3DCGAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// box3DCGAnalyticAbs returns |v|.
-func box3DCGAnalyticAbs(v float64) float64 {
-	if v < 0 {
-		return -v
+	if stall {
+		box3DCGAnalyticRoundingFloor(x, g, e, diffs)
 	}
-	return v
+	return calls, true
 }
 
 // box3DCGAnalyticConfirmGradient recomputes a difference gradient at x before the run is
@@ -549,33 +526,20 @@ func box3DCGAnalyticConfirmGradient(x *[3]float64, fx float64, g, e *[3]float64,
 	return calls + 2*box3DCGAnalyticDerivativeCost, true
 }
 
-// box3DCGAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func box3DCGAnalyticStepWithin(s, x *[3]float64, tol float64) bool {
-	for i := range s {
-		if !(box3DCGAnalyticAbs(s[i]) <= tol*(box3DCGAnalyticAbs(x[i])+1)) {
-			return false
-		}
+// box3DCGAnalyticGradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func box3DCGAnalyticGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *box3DCGAnalyticDifferences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// box3DCGAnalyticSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (box3DCGAnalyticConfirmGradient), then it adds to each error
-// bound the rounding floor of x (box3DCGAnalyticRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func box3DCGAnalyticSettle(x *[3]float64, fx float64, g, e *[3]float64, diffs *box3DCGAnalyticDifferences, budget int) (int, bool) {
-	calls := 0
-	if box3DCGAnalyticDerivativeCost > 0 {
-		spent, ok := box3DCGAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// box3DCGAnalyticAbs returns |v|.
+func box3DCGAnalyticAbs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	box3DCGAnalyticRoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // box3DCGAnalyticRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -618,6 +582,39 @@ func box3DCGAnalyticProbeStep(xi, h float64) (float64, float64) {
 // box3DCGAnalyticSquareRoot returns √v.
 func box3DCGAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// box3DCGAnalyticGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func box3DCGAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
+	scale := box3DCGAnalyticLarger(box3DCGAnalyticAbs(fx), 1)
+	for i := range g {
+		w := box3DCGAnalyticLarger(box3DCGAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = box3DCGAnalyticLarger(measure, (box3DCGAnalyticAbs(g[i])+e[i])*w)
+		floor = box3DCGAnalyticLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// box3DCGAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func box3DCGAnalyticStepWithin(s, x *[3]float64, tol float64) bool {
+	for i := range s {
+		if !(box3DCGAnalyticAbs(s[i]) <= tol*(box3DCGAnalyticAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // box3DCGAnalyticTinyStep returns the longest t for which the step t·d from x passes the

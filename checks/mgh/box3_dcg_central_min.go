@@ -190,11 +190,25 @@ func box3DCGCentralMinimize(x0 [3]float64, lim Box3DCGCentralLimits) box3DCGCent
 	t, slope := float64(box3DCGCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                      // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                         // whether g and e at x come from box3DCGCentralConfirmGradient
+	confirmed := false                                         // whether g and e at x come from box3DCGCentralConfirmGradient or settle
 	stalled := false                                           // whether the run can make no more progress at x
 	retried := -1                                              // the iteration whose stall was retried with recalibrated differences
+	verify := box3DCGCentralVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != box3DCGCentralVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see box3DCGCentralConfirmGradient and settle).
+			calls, ok := box3DCGCentralSettle(&x, fx, &g, &e, &diffs, verify == box3DCGCentralVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(Box3DCGCentralOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !box3DCGCentralFiniteVec(&g) {
+				return best.ending(Box3DCGCentralNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = box3DCGCentralVerifyNothing, true
+		case !confirmed:
 			box3DCGCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := box3DCGCentralGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func box3DCGCentralMinimize(x0 [3]float64, lim Box3DCGCentralLimits) box3DCGCent
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := box3DCGCentralConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(Box3DCGCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !box3DCGCentralFiniteVec(&g) {
-				return best.ending(Box3DCGCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = box3DCGCentralVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func box3DCGCentralMinimize(x0 [3]float64, lim Box3DCGCentralLimits) box3DCGCent
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if box3DCGCentralStepWithin(&s, &x, lim.Step) {
-				calls, ok := box3DCGCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(Box3DCGCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !box3DCGCentralFiniteVec(&g) {
-					return best.ending(Box3DCGCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = box3DCGCentralVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func box3DCGCentralMinimize(x0 [3]float64, lim Box3DCGCentralLimits) box3DCGCent
 			case found.rising:
 				end = Box3DCGCentralNoDecrease
 			case found.end == box3DCGCentralSearchTiny && canSettle:
-				calls, ok := box3DCGCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(Box3DCGCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !box3DCGCentralFiniteVec(&g) {
-					return best.ending(Box3DCGCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = box3DCGCentralVerifyStall, true
 				continue
 			case found.end == box3DCGCentralSearchTiny:
 				end = Box3DCGCentralStalled
@@ -615,37 +603,30 @@ func box3DCGCentralScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
-// box3DCGCentralGradientError bounds each central difference's error by twice its
-// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
-// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
-// in forwardError).
-func box3DCGCentralGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *box3DCGCentralDifferences) {
-	noise := box3DCGCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h := diffs.ratio[i] * box3DCGCentralLarger(1, box3DCGCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	box3DCGCentralVerifyNothing = iota
+	box3DCGCentralVerifyPass    // a difference gradient passed the test
+	box3DCGCentralVerifyStall   // no step makes progress
+)
 
-// box3DCGCentralGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func box3DCGCentralGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
-	scale := box3DCGCentralLarger(box3DCGCentralAbs(fx), 1)
-	for i := range g {
-		w := box3DCGCentralLarger(box3DCGCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = box3DCGCentralLarger(measure, (box3DCGCentralAbs(g[i])+e[i])*w)
-		floor = box3DCGCentralLarger(floor, e[i]*w)
+// box3DCGCentralSettle prepares a verdict at x: with differences it confirms the
+// gradient (box3DCGCentralConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (box3DCGCentralRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func box3DCGCentralSettle(x *[3]float64, fx float64, g, e *[3]float64, diffs *box3DCGCentralDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if box3DCGCentralDerivativeCost > 0 {
+		spent, ok := box3DCGCentralConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
+	if stall {
+		box3DCGCentralRoundingFloor(x, g, e, diffs)
+	}
+	return calls, true
 }
 
 // box3DCGCentralConfirmGradient recomputes a difference gradient at x before the run is
@@ -678,33 +659,16 @@ func box3DCGCentralConfirmGradient(x *[3]float64, fx float64, g, e *[3]float64, 
 	return calls + 2*box3DCGCentralDerivativeCost, true
 }
 
-// box3DCGCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func box3DCGCentralStepWithin(s, x *[3]float64, tol float64) bool {
-	for i := range s {
-		if !(box3DCGCentralAbs(s[i]) <= tol*(box3DCGCentralAbs(x[i])+1)) {
-			return false
-		}
+// box3DCGCentralGradientError bounds each central difference's error by twice its
+// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
+// in forwardError).
+func box3DCGCentralGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *box3DCGCentralDifferences) {
+	noise := box3DCGCentralNoiseLevel(x, fx, g)
+	for i := range e {
+		h := diffs.ratio[i] * box3DCGCentralLarger(1, box3DCGCentralAbs(x[i]))
+		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
 	}
-	return true
-}
-
-// box3DCGCentralSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (box3DCGCentralConfirmGradient), then it adds to each error
-// bound the rounding floor of x (box3DCGCentralRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func box3DCGCentralSettle(x *[3]float64, fx float64, g, e *[3]float64, diffs *box3DCGCentralDifferences, budget int) (int, bool) {
-	calls := 0
-	if box3DCGCentralDerivativeCost > 0 {
-		spent, ok := box3DCGCentralConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
-	}
-	box3DCGCentralRoundingFloor(x, g, e, diffs)
-	return calls, true
 }
 
 // box3DCGCentralRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -725,6 +689,39 @@ func box3DCGCentralRoundingFloor(x, g, e *[3]float64, diffs *box3DCGCentralDiffe
 // calibration, which box3DCGCentralConfirmGradient has just made at x.
 func box3DCGCentralDiagonalCurvature(x, g *[3]float64, diffs *box3DCGCentralDifferences, h *[3]float64) {
 	*h = diffs.second
+}
+
+// box3DCGCentralGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func box3DCGCentralGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
+	scale := box3DCGCentralLarger(box3DCGCentralAbs(fx), 1)
+	for i := range g {
+		w := box3DCGCentralLarger(box3DCGCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = box3DCGCentralLarger(measure, (box3DCGCentralAbs(g[i])+e[i])*w)
+		floor = box3DCGCentralLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// box3DCGCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func box3DCGCentralStepWithin(s, x *[3]float64, tol float64) bool {
+	for i := range s {
+		if !(box3DCGCentralAbs(s[i]) <= tol*(box3DCGCentralAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // box3DCGCentralTinyStep returns the longest t for which the step t·d from x passes the

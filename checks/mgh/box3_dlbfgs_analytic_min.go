@@ -191,11 +191,25 @@ func box3DLBFGSAnalyticMinimize(x0 [3]float64, lim Box3DLBFGSAnalyticLimits) box
 	t, slope := float64(box3DLBFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                    // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                          // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                             // whether g and e at x come from box3DLBFGSAnalyticConfirmGradient
+	confirmed := false                                             // whether g and e at x come from box3DLBFGSAnalyticConfirmGradient or settle
 	stalled := false                                               // whether the run can make no more progress at x
 	retried := -1                                                  // the iteration whose stall was retried with recalibrated differences
+	verify := box3DLBFGSAnalyticVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != box3DLBFGSAnalyticVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see box3DLBFGSAnalyticConfirmGradient and settle).
+			calls, ok := box3DLBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, verify == box3DLBFGSAnalyticVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(Box3DLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !box3DLBFGSAnalyticFiniteVec(&g) {
+				return best.ending(Box3DLBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = box3DLBFGSAnalyticVerifyNothing, true
+		case !confirmed:
 			box3DLBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := box3DLBFGSAnalyticGradientMeasure(&g, &e, &x, fx)
@@ -213,17 +227,7 @@ func box3DLBFGSAnalyticMinimize(x0 [3]float64, lim Box3DLBFGSAnalyticLimits) box
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := box3DLBFGSAnalyticConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(Box3DLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !box3DLBFGSAnalyticFiniteVec(&g) {
-				return best.ending(Box3DLBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = box3DLBFGSAnalyticVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -241,15 +245,7 @@ func box3DLBFGSAnalyticMinimize(x0 [3]float64, lim Box3DLBFGSAnalyticLimits) box
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if box3DLBFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				calls, ok := box3DLBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(Box3DLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !box3DLBFGSAnalyticFiniteVec(&g) {
-					return best.ending(Box3DLBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = box3DLBFGSAnalyticVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -290,15 +286,7 @@ func box3DLBFGSAnalyticMinimize(x0 [3]float64, lim Box3DLBFGSAnalyticLimits) box
 			case found.rising:
 				end = Box3DLBFGSAnalyticNoDecrease
 			case found.end == box3DLBFGSAnalyticSearchTiny && canSettle:
-				calls, ok := box3DLBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(Box3DLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !box3DLBFGSAnalyticFiniteVec(&g) {
-					return best.ending(Box3DLBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = box3DLBFGSAnalyticVerifyStall, true
 				continue
 			case found.end == box3DLBFGSAnalyticSearchTiny:
 				end = Box3DLBFGSAnalyticStalled
@@ -516,51 +504,30 @@ func box3DLBFGSAnalyticCurvatureSafe(s, y *[3]float64) bool {
 	return sy > 0 && (sy/box3DLBFGSAnalyticDot(s, s))*(sy/box3DLBFGSAnalyticDot(y, y)) > box3DLBFGSAnalyticUnitRoundoff
 }
 
-// box3DLBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func box3DLBFGSAnalyticGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *box3DLBFGSAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	box3DLBFGSAnalyticVerifyNothing = iota
+	box3DLBFGSAnalyticVerifyPass    // a difference gradient passed the test
+	box3DLBFGSAnalyticVerifyStall   // no step makes progress
+)
 
-// box3DLBFGSAnalyticGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func box3DLBFGSAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
-	scale := box3DLBFGSAnalyticLarger(box3DLBFGSAnalyticAbs(fx), 1)
-	for i := range g {
-		w := box3DLBFGSAnalyticLarger(box3DLBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = box3DLBFGSAnalyticLarger(measure, (box3DLBFGSAnalyticAbs(g[i])+e[i])*w)
-		floor = box3DLBFGSAnalyticLarger(floor, e[i]*w)
+// box3DLBFGSAnalyticSettle prepares a verdict at x: with differences it confirms the
+// gradient (box3DLBFGSAnalyticConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (box3DLBFGSAnalyticRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func box3DLBFGSAnalyticSettle(x *[3]float64, fx float64, g, e *[3]float64, diffs *box3DLBFGSAnalyticDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if box3DLBFGSAnalyticDerivativeCost > 0 {
+		spent, ok := box3DLBFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// box3DLBFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func box3DLBFGSAnalyticLarger(a, b float64) float64 {
-	if a > b || a != a {
-		return a
+	if stall {
+		box3DLBFGSAnalyticRoundingFloor(x, g, e, diffs)
 	}
-	return b
-}
-
-// box3DLBFGSAnalyticAbs returns |v|.
-func box3DLBFGSAnalyticAbs(v float64) float64 {
-	if v < 0 {
-		return -v
-	}
-	return v
+	return calls, true
 }
 
 // box3DLBFGSAnalyticConfirmGradient recomputes a difference gradient at x before the run is
@@ -593,33 +560,20 @@ func box3DLBFGSAnalyticConfirmGradient(x *[3]float64, fx float64, g, e *[3]float
 	return calls + 2*box3DLBFGSAnalyticDerivativeCost, true
 }
 
-// box3DLBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func box3DLBFGSAnalyticStepWithin(s, x *[3]float64, tol float64) bool {
-	for i := range s {
-		if !(box3DLBFGSAnalyticAbs(s[i]) <= tol*(box3DLBFGSAnalyticAbs(x[i])+1)) {
-			return false
-		}
+// box3DLBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func box3DLBFGSAnalyticGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *box3DLBFGSAnalyticDifferences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// box3DLBFGSAnalyticSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (box3DLBFGSAnalyticConfirmGradient), then it adds to each error
-// bound the rounding floor of x (box3DLBFGSAnalyticRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func box3DLBFGSAnalyticSettle(x *[3]float64, fx float64, g, e *[3]float64, diffs *box3DLBFGSAnalyticDifferences, budget int) (int, bool) {
-	calls := 0
-	if box3DLBFGSAnalyticDerivativeCost > 0 {
-		spent, ok := box3DLBFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// box3DLBFGSAnalyticAbs returns |v|.
+func box3DLBFGSAnalyticAbs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	box3DLBFGSAnalyticRoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // box3DLBFGSAnalyticRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -662,6 +616,49 @@ func box3DLBFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
 // box3DLBFGSAnalyticSquareRoot returns √v.
 func box3DLBFGSAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// box3DLBFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func box3DLBFGSAnalyticLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// box3DLBFGSAnalyticGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func box3DLBFGSAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
+	scale := box3DLBFGSAnalyticLarger(box3DLBFGSAnalyticAbs(fx), 1)
+	for i := range g {
+		w := box3DLBFGSAnalyticLarger(box3DLBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = box3DLBFGSAnalyticLarger(measure, (box3DLBFGSAnalyticAbs(g[i])+e[i])*w)
+		floor = box3DLBFGSAnalyticLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// box3DLBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func box3DLBFGSAnalyticStepWithin(s, x *[3]float64, tol float64) bool {
+	for i := range s {
+		if !(box3DLBFGSAnalyticAbs(s[i]) <= tol*(box3DLBFGSAnalyticAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // box3DLBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the

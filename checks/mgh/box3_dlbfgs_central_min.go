@@ -191,11 +191,25 @@ func box3DLBFGSCentralMinimize(x0 [3]float64, lim Box3DLBFGSCentralLimits) box3D
 	t, slope := float64(box3DLBFGSCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                   // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                         // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                            // whether g and e at x come from box3DLBFGSCentralConfirmGradient
+	confirmed := false                                            // whether g and e at x come from box3DLBFGSCentralConfirmGradient or settle
 	stalled := false                                              // whether the run can make no more progress at x
 	retried := -1                                                 // the iteration whose stall was retried with recalibrated differences
+	verify := box3DLBFGSCentralVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != box3DLBFGSCentralVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see box3DLBFGSCentralConfirmGradient and settle).
+			calls, ok := box3DLBFGSCentralSettle(&x, fx, &g, &e, &diffs, verify == box3DLBFGSCentralVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(Box3DLBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !box3DLBFGSCentralFiniteVec(&g) {
+				return best.ending(Box3DLBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = box3DLBFGSCentralVerifyNothing, true
+		case !confirmed:
 			box3DLBFGSCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := box3DLBFGSCentralGradientMeasure(&g, &e, &x, fx)
@@ -213,17 +227,7 @@ func box3DLBFGSCentralMinimize(x0 [3]float64, lim Box3DLBFGSCentralLimits) box3D
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := box3DLBFGSCentralConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(Box3DLBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !box3DLBFGSCentralFiniteVec(&g) {
-				return best.ending(Box3DLBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = box3DLBFGSCentralVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -241,15 +245,7 @@ func box3DLBFGSCentralMinimize(x0 [3]float64, lim Box3DLBFGSCentralLimits) box3D
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if box3DLBFGSCentralStepWithin(&s, &x, lim.Step) {
-				calls, ok := box3DLBFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(Box3DLBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !box3DLBFGSCentralFiniteVec(&g) {
-					return best.ending(Box3DLBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = box3DLBFGSCentralVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -290,15 +286,7 @@ func box3DLBFGSCentralMinimize(x0 [3]float64, lim Box3DLBFGSCentralLimits) box3D
 			case found.rising:
 				end = Box3DLBFGSCentralNoDecrease
 			case found.end == box3DLBFGSCentralSearchTiny && canSettle:
-				calls, ok := box3DLBFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(Box3DLBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !box3DLBFGSCentralFiniteVec(&g) {
-					return best.ending(Box3DLBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = box3DLBFGSCentralVerifyStall, true
 				continue
 			case found.end == box3DLBFGSCentralSearchTiny:
 				end = Box3DLBFGSCentralStalled
@@ -659,37 +647,30 @@ func box3DLBFGSCentralCurvatureSafe(s, y *[3]float64) bool {
 	return sy > 0 && (sy/box3DLBFGSCentralDot(s, s))*(sy/box3DLBFGSCentralDot(y, y)) > box3DLBFGSCentralUnitRoundoff
 }
 
-// box3DLBFGSCentralGradientError bounds each central difference's error by twice its
-// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
-// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
-// in forwardError).
-func box3DLBFGSCentralGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *box3DLBFGSCentralDifferences) {
-	noise := box3DLBFGSCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h := diffs.ratio[i] * box3DLBFGSCentralLarger(1, box3DLBFGSCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	box3DLBFGSCentralVerifyNothing = iota
+	box3DLBFGSCentralVerifyPass    // a difference gradient passed the test
+	box3DLBFGSCentralVerifyStall   // no step makes progress
+)
 
-// box3DLBFGSCentralGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func box3DLBFGSCentralGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
-	scale := box3DLBFGSCentralLarger(box3DLBFGSCentralAbs(fx), 1)
-	for i := range g {
-		w := box3DLBFGSCentralLarger(box3DLBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = box3DLBFGSCentralLarger(measure, (box3DLBFGSCentralAbs(g[i])+e[i])*w)
-		floor = box3DLBFGSCentralLarger(floor, e[i]*w)
+// box3DLBFGSCentralSettle prepares a verdict at x: with differences it confirms the
+// gradient (box3DLBFGSCentralConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (box3DLBFGSCentralRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func box3DLBFGSCentralSettle(x *[3]float64, fx float64, g, e *[3]float64, diffs *box3DLBFGSCentralDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if box3DLBFGSCentralDerivativeCost > 0 {
+		spent, ok := box3DLBFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
+	if stall {
+		box3DLBFGSCentralRoundingFloor(x, g, e, diffs)
+	}
+	return calls, true
 }
 
 // box3DLBFGSCentralConfirmGradient recomputes a difference gradient at x before the run is
@@ -722,33 +703,16 @@ func box3DLBFGSCentralConfirmGradient(x *[3]float64, fx float64, g, e *[3]float6
 	return calls + 2*box3DLBFGSCentralDerivativeCost, true
 }
 
-// box3DLBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func box3DLBFGSCentralStepWithin(s, x *[3]float64, tol float64) bool {
-	for i := range s {
-		if !(box3DLBFGSCentralAbs(s[i]) <= tol*(box3DLBFGSCentralAbs(x[i])+1)) {
-			return false
-		}
+// box3DLBFGSCentralGradientError bounds each central difference's error by twice its
+// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
+// in forwardError).
+func box3DLBFGSCentralGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *box3DLBFGSCentralDifferences) {
+	noise := box3DLBFGSCentralNoiseLevel(x, fx, g)
+	for i := range e {
+		h := diffs.ratio[i] * box3DLBFGSCentralLarger(1, box3DLBFGSCentralAbs(x[i]))
+		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
 	}
-	return true
-}
-
-// box3DLBFGSCentralSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (box3DLBFGSCentralConfirmGradient), then it adds to each error
-// bound the rounding floor of x (box3DLBFGSCentralRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func box3DLBFGSCentralSettle(x *[3]float64, fx float64, g, e *[3]float64, diffs *box3DLBFGSCentralDifferences, budget int) (int, bool) {
-	calls := 0
-	if box3DLBFGSCentralDerivativeCost > 0 {
-		spent, ok := box3DLBFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
-	}
-	box3DLBFGSCentralRoundingFloor(x, g, e, diffs)
-	return calls, true
 }
 
 // box3DLBFGSCentralRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -769,6 +733,39 @@ func box3DLBFGSCentralRoundingFloor(x, g, e *[3]float64, diffs *box3DLBFGSCentra
 // calibration, which box3DLBFGSCentralConfirmGradient has just made at x.
 func box3DLBFGSCentralDiagonalCurvature(x, g *[3]float64, diffs *box3DLBFGSCentralDifferences, h *[3]float64) {
 	*h = diffs.second
+}
+
+// box3DLBFGSCentralGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func box3DLBFGSCentralGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
+	scale := box3DLBFGSCentralLarger(box3DLBFGSCentralAbs(fx), 1)
+	for i := range g {
+		w := box3DLBFGSCentralLarger(box3DLBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = box3DLBFGSCentralLarger(measure, (box3DLBFGSCentralAbs(g[i])+e[i])*w)
+		floor = box3DLBFGSCentralLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// box3DLBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func box3DLBFGSCentralStepWithin(s, x *[3]float64, tol float64) bool {
+	for i := range s {
+		if !(box3DLBFGSCentralAbs(s[i]) <= tol*(box3DLBFGSCentralAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // box3DLBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the

@@ -190,11 +190,25 @@ func brownBadlyScaledBFGSAnalyticMinimize(x0 [2]float64, lim BrownBadlyScaledBFG
 	t, slope := float64(brownBadlyScaledBFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                              // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                                    // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                       // whether g and e at x come from brownBadlyScaledBFGSAnalyticConfirmGradient
+	confirmed := false                                                       // whether g and e at x come from brownBadlyScaledBFGSAnalyticConfirmGradient or settle
 	stalled := false                                                         // whether the run can make no more progress at x
 	retried := -1                                                            // the iteration whose stall was retried with recalibrated differences
+	verify := brownBadlyScaledBFGSAnalyticVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != brownBadlyScaledBFGSAnalyticVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see brownBadlyScaledBFGSAnalyticConfirmGradient and settle).
+			calls, ok := brownBadlyScaledBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, verify == brownBadlyScaledBFGSAnalyticVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(BrownBadlyScaledBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !brownBadlyScaledBFGSAnalyticFiniteVec(&g) {
+				return best.ending(BrownBadlyScaledBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = brownBadlyScaledBFGSAnalyticVerifyNothing, true
+		case !confirmed:
 			brownBadlyScaledBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := brownBadlyScaledBFGSAnalyticGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func brownBadlyScaledBFGSAnalyticMinimize(x0 [2]float64, lim BrownBadlyScaledBFG
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := brownBadlyScaledBFGSAnalyticConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(BrownBadlyScaledBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !brownBadlyScaledBFGSAnalyticFiniteVec(&g) {
-				return best.ending(BrownBadlyScaledBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = brownBadlyScaledBFGSAnalyticVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func brownBadlyScaledBFGSAnalyticMinimize(x0 [2]float64, lim BrownBadlyScaledBFG
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if brownBadlyScaledBFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				calls, ok := brownBadlyScaledBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(BrownBadlyScaledBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !brownBadlyScaledBFGSAnalyticFiniteVec(&g) {
-					return best.ending(BrownBadlyScaledBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = brownBadlyScaledBFGSAnalyticVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func brownBadlyScaledBFGSAnalyticMinimize(x0 [2]float64, lim BrownBadlyScaledBFG
 			case found.rising:
 				end = BrownBadlyScaledBFGSAnalyticNoDecrease
 			case found.end == brownBadlyScaledBFGSAnalyticSearchTiny && canSettle:
-				calls, ok := brownBadlyScaledBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(BrownBadlyScaledBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !brownBadlyScaledBFGSAnalyticFiniteVec(&g) {
-					return best.ending(BrownBadlyScaledBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = brownBadlyScaledBFGSAnalyticVerifyStall, true
 				continue
 			case found.end == brownBadlyScaledBFGSAnalyticSearchTiny:
 				end = BrownBadlyScaledBFGSAnalyticStalled
@@ -490,51 +478,30 @@ func brownBadlyScaledBFGSAnalyticCurvatureSafe(s, y *[2]float64) bool {
 	return sy > 0 && (sy/brownBadlyScaledBFGSAnalyticDot(s, s))*(sy/brownBadlyScaledBFGSAnalyticDot(y, y)) > brownBadlyScaledBFGSAnalyticUnitRoundoff
 }
 
-// brownBadlyScaledBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func brownBadlyScaledBFGSAnalyticGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *brownBadlyScaledBFGSAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	brownBadlyScaledBFGSAnalyticVerifyNothing = iota
+	brownBadlyScaledBFGSAnalyticVerifyPass    // a difference gradient passed the test
+	brownBadlyScaledBFGSAnalyticVerifyStall   // no step makes progress
+)
 
-// brownBadlyScaledBFGSAnalyticGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func brownBadlyScaledBFGSAnalyticGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
-	scale := brownBadlyScaledBFGSAnalyticLarger(brownBadlyScaledBFGSAnalyticAbs(fx), 1)
-	for i := range g {
-		w := brownBadlyScaledBFGSAnalyticLarger(brownBadlyScaledBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = brownBadlyScaledBFGSAnalyticLarger(measure, (brownBadlyScaledBFGSAnalyticAbs(g[i])+e[i])*w)
-		floor = brownBadlyScaledBFGSAnalyticLarger(floor, e[i]*w)
+// brownBadlyScaledBFGSAnalyticSettle prepares a verdict at x: with differences it confirms the
+// gradient (brownBadlyScaledBFGSAnalyticConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (brownBadlyScaledBFGSAnalyticRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func brownBadlyScaledBFGSAnalyticSettle(x *[2]float64, fx float64, g, e *[2]float64, diffs *brownBadlyScaledBFGSAnalyticDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if brownBadlyScaledBFGSAnalyticDerivativeCost > 0 {
+		spent, ok := brownBadlyScaledBFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// brownBadlyScaledBFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func brownBadlyScaledBFGSAnalyticLarger(a, b float64) float64 {
-	if a > b || a != a {
-		return a
+	if stall {
+		brownBadlyScaledBFGSAnalyticRoundingFloor(x, g, e, diffs)
 	}
-	return b
-}
-
-// brownBadlyScaledBFGSAnalyticAbs returns |v|.
-func brownBadlyScaledBFGSAnalyticAbs(v float64) float64 {
-	if v < 0 {
-		return -v
-	}
-	return v
+	return calls, true
 }
 
 // brownBadlyScaledBFGSAnalyticConfirmGradient recomputes a difference gradient at x before the run is
@@ -567,33 +534,20 @@ func brownBadlyScaledBFGSAnalyticConfirmGradient(x *[2]float64, fx float64, g, e
 	return calls + 2*brownBadlyScaledBFGSAnalyticDerivativeCost, true
 }
 
-// brownBadlyScaledBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func brownBadlyScaledBFGSAnalyticStepWithin(s, x *[2]float64, tol float64) bool {
-	for i := range s {
-		if !(brownBadlyScaledBFGSAnalyticAbs(s[i]) <= tol*(brownBadlyScaledBFGSAnalyticAbs(x[i])+1)) {
-			return false
-		}
+// brownBadlyScaledBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func brownBadlyScaledBFGSAnalyticGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *brownBadlyScaledBFGSAnalyticDifferences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// brownBadlyScaledBFGSAnalyticSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (brownBadlyScaledBFGSAnalyticConfirmGradient), then it adds to each error
-// bound the rounding floor of x (brownBadlyScaledBFGSAnalyticRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func brownBadlyScaledBFGSAnalyticSettle(x *[2]float64, fx float64, g, e *[2]float64, diffs *brownBadlyScaledBFGSAnalyticDifferences, budget int) (int, bool) {
-	calls := 0
-	if brownBadlyScaledBFGSAnalyticDerivativeCost > 0 {
-		spent, ok := brownBadlyScaledBFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// brownBadlyScaledBFGSAnalyticAbs returns |v|.
+func brownBadlyScaledBFGSAnalyticAbs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	brownBadlyScaledBFGSAnalyticRoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // brownBadlyScaledBFGSAnalyticRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -636,6 +590,49 @@ func brownBadlyScaledBFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
 // brownBadlyScaledBFGSAnalyticSquareRoot returns √v.
 func brownBadlyScaledBFGSAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// brownBadlyScaledBFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func brownBadlyScaledBFGSAnalyticLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// brownBadlyScaledBFGSAnalyticGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func brownBadlyScaledBFGSAnalyticGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
+	scale := brownBadlyScaledBFGSAnalyticLarger(brownBadlyScaledBFGSAnalyticAbs(fx), 1)
+	for i := range g {
+		w := brownBadlyScaledBFGSAnalyticLarger(brownBadlyScaledBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = brownBadlyScaledBFGSAnalyticLarger(measure, (brownBadlyScaledBFGSAnalyticAbs(g[i])+e[i])*w)
+		floor = brownBadlyScaledBFGSAnalyticLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// brownBadlyScaledBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func brownBadlyScaledBFGSAnalyticStepWithin(s, x *[2]float64, tol float64) bool {
+	for i := range s {
+		if !(brownBadlyScaledBFGSAnalyticAbs(s[i]) <= tol*(brownBadlyScaledBFGSAnalyticAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // brownBadlyScaledBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the

@@ -190,11 +190,25 @@ func brownBadlyScaledBFGSCentralMinimize(x0 [2]float64, lim BrownBadlyScaledBFGS
 	t, slope := float64(brownBadlyScaledBFGSCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                             // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                                   // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                      // whether g and e at x come from brownBadlyScaledBFGSCentralConfirmGradient
+	confirmed := false                                                      // whether g and e at x come from brownBadlyScaledBFGSCentralConfirmGradient or settle
 	stalled := false                                                        // whether the run can make no more progress at x
 	retried := -1                                                           // the iteration whose stall was retried with recalibrated differences
+	verify := brownBadlyScaledBFGSCentralVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != brownBadlyScaledBFGSCentralVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see brownBadlyScaledBFGSCentralConfirmGradient and settle).
+			calls, ok := brownBadlyScaledBFGSCentralSettle(&x, fx, &g, &e, &diffs, verify == brownBadlyScaledBFGSCentralVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(BrownBadlyScaledBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !brownBadlyScaledBFGSCentralFiniteVec(&g) {
+				return best.ending(BrownBadlyScaledBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = brownBadlyScaledBFGSCentralVerifyNothing, true
+		case !confirmed:
 			brownBadlyScaledBFGSCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := brownBadlyScaledBFGSCentralGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func brownBadlyScaledBFGSCentralMinimize(x0 [2]float64, lim BrownBadlyScaledBFGS
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := brownBadlyScaledBFGSCentralConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(BrownBadlyScaledBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !brownBadlyScaledBFGSCentralFiniteVec(&g) {
-				return best.ending(BrownBadlyScaledBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = brownBadlyScaledBFGSCentralVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func brownBadlyScaledBFGSCentralMinimize(x0 [2]float64, lim BrownBadlyScaledBFGS
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if brownBadlyScaledBFGSCentralStepWithin(&s, &x, lim.Step) {
-				calls, ok := brownBadlyScaledBFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(BrownBadlyScaledBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !brownBadlyScaledBFGSCentralFiniteVec(&g) {
-					return best.ending(BrownBadlyScaledBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = brownBadlyScaledBFGSCentralVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func brownBadlyScaledBFGSCentralMinimize(x0 [2]float64, lim BrownBadlyScaledBFGS
 			case found.rising:
 				end = BrownBadlyScaledBFGSCentralNoDecrease
 			case found.end == brownBadlyScaledBFGSCentralSearchTiny && canSettle:
-				calls, ok := brownBadlyScaledBFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(BrownBadlyScaledBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !brownBadlyScaledBFGSCentralFiniteVec(&g) {
-					return best.ending(BrownBadlyScaledBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = brownBadlyScaledBFGSCentralVerifyStall, true
 				continue
 			case found.end == brownBadlyScaledBFGSCentralSearchTiny:
 				end = BrownBadlyScaledBFGSCentralStalled
@@ -633,37 +621,30 @@ func brownBadlyScaledBFGSCentralCurvatureSafe(s, y *[2]float64) bool {
 	return sy > 0 && (sy/brownBadlyScaledBFGSCentralDot(s, s))*(sy/brownBadlyScaledBFGSCentralDot(y, y)) > brownBadlyScaledBFGSCentralUnitRoundoff
 }
 
-// brownBadlyScaledBFGSCentralGradientError bounds each central difference's error by twice its
-// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
-// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
-// in forwardError).
-func brownBadlyScaledBFGSCentralGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *brownBadlyScaledBFGSCentralDifferences) {
-	noise := brownBadlyScaledBFGSCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h := diffs.ratio[i] * brownBadlyScaledBFGSCentralLarger(1, brownBadlyScaledBFGSCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	brownBadlyScaledBFGSCentralVerifyNothing = iota
+	brownBadlyScaledBFGSCentralVerifyPass    // a difference gradient passed the test
+	brownBadlyScaledBFGSCentralVerifyStall   // no step makes progress
+)
 
-// brownBadlyScaledBFGSCentralGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func brownBadlyScaledBFGSCentralGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
-	scale := brownBadlyScaledBFGSCentralLarger(brownBadlyScaledBFGSCentralAbs(fx), 1)
-	for i := range g {
-		w := brownBadlyScaledBFGSCentralLarger(brownBadlyScaledBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = brownBadlyScaledBFGSCentralLarger(measure, (brownBadlyScaledBFGSCentralAbs(g[i])+e[i])*w)
-		floor = brownBadlyScaledBFGSCentralLarger(floor, e[i]*w)
+// brownBadlyScaledBFGSCentralSettle prepares a verdict at x: with differences it confirms the
+// gradient (brownBadlyScaledBFGSCentralConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (brownBadlyScaledBFGSCentralRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func brownBadlyScaledBFGSCentralSettle(x *[2]float64, fx float64, g, e *[2]float64, diffs *brownBadlyScaledBFGSCentralDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if brownBadlyScaledBFGSCentralDerivativeCost > 0 {
+		spent, ok := brownBadlyScaledBFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
+	if stall {
+		brownBadlyScaledBFGSCentralRoundingFloor(x, g, e, diffs)
+	}
+	return calls, true
 }
 
 // brownBadlyScaledBFGSCentralConfirmGradient recomputes a difference gradient at x before the run is
@@ -696,33 +677,16 @@ func brownBadlyScaledBFGSCentralConfirmGradient(x *[2]float64, fx float64, g, e 
 	return calls + 2*brownBadlyScaledBFGSCentralDerivativeCost, true
 }
 
-// brownBadlyScaledBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func brownBadlyScaledBFGSCentralStepWithin(s, x *[2]float64, tol float64) bool {
-	for i := range s {
-		if !(brownBadlyScaledBFGSCentralAbs(s[i]) <= tol*(brownBadlyScaledBFGSCentralAbs(x[i])+1)) {
-			return false
-		}
+// brownBadlyScaledBFGSCentralGradientError bounds each central difference's error by twice its
+// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
+// in forwardError).
+func brownBadlyScaledBFGSCentralGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *brownBadlyScaledBFGSCentralDifferences) {
+	noise := brownBadlyScaledBFGSCentralNoiseLevel(x, fx, g)
+	for i := range e {
+		h := diffs.ratio[i] * brownBadlyScaledBFGSCentralLarger(1, brownBadlyScaledBFGSCentralAbs(x[i]))
+		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
 	}
-	return true
-}
-
-// brownBadlyScaledBFGSCentralSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (brownBadlyScaledBFGSCentralConfirmGradient), then it adds to each error
-// bound the rounding floor of x (brownBadlyScaledBFGSCentralRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func brownBadlyScaledBFGSCentralSettle(x *[2]float64, fx float64, g, e *[2]float64, diffs *brownBadlyScaledBFGSCentralDifferences, budget int) (int, bool) {
-	calls := 0
-	if brownBadlyScaledBFGSCentralDerivativeCost > 0 {
-		spent, ok := brownBadlyScaledBFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
-	}
-	brownBadlyScaledBFGSCentralRoundingFloor(x, g, e, diffs)
-	return calls, true
 }
 
 // brownBadlyScaledBFGSCentralRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -743,6 +707,39 @@ func brownBadlyScaledBFGSCentralRoundingFloor(x, g, e *[2]float64, diffs *brownB
 // calibration, which brownBadlyScaledBFGSCentralConfirmGradient has just made at x.
 func brownBadlyScaledBFGSCentralDiagonalCurvature(x, g *[2]float64, diffs *brownBadlyScaledBFGSCentralDifferences, h *[2]float64) {
 	*h = diffs.second
+}
+
+// brownBadlyScaledBFGSCentralGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func brownBadlyScaledBFGSCentralGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
+	scale := brownBadlyScaledBFGSCentralLarger(brownBadlyScaledBFGSCentralAbs(fx), 1)
+	for i := range g {
+		w := brownBadlyScaledBFGSCentralLarger(brownBadlyScaledBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = brownBadlyScaledBFGSCentralLarger(measure, (brownBadlyScaledBFGSCentralAbs(g[i])+e[i])*w)
+		floor = brownBadlyScaledBFGSCentralLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// brownBadlyScaledBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func brownBadlyScaledBFGSCentralStepWithin(s, x *[2]float64, tol float64) bool {
+	for i := range s {
+		if !(brownBadlyScaledBFGSCentralAbs(s[i]) <= tol*(brownBadlyScaledBFGSCentralAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // brownBadlyScaledBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the

@@ -190,11 +190,25 @@ func brownBadlyScaledCGAnalyticMinimize(x0 [2]float64, lim BrownBadlyScaledCGAna
 	t, slope := float64(brownBadlyScaledCGAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                            // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                                  // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                     // whether g and e at x come from brownBadlyScaledCGAnalyticConfirmGradient
+	confirmed := false                                                     // whether g and e at x come from brownBadlyScaledCGAnalyticConfirmGradient or settle
 	stalled := false                                                       // whether the run can make no more progress at x
 	retried := -1                                                          // the iteration whose stall was retried with recalibrated differences
+	verify := brownBadlyScaledCGAnalyticVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != brownBadlyScaledCGAnalyticVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see brownBadlyScaledCGAnalyticConfirmGradient and settle).
+			calls, ok := brownBadlyScaledCGAnalyticSettle(&x, fx, &g, &e, &diffs, verify == brownBadlyScaledCGAnalyticVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(BrownBadlyScaledCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !brownBadlyScaledCGAnalyticFiniteVec(&g) {
+				return best.ending(BrownBadlyScaledCGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = brownBadlyScaledCGAnalyticVerifyNothing, true
+		case !confirmed:
 			brownBadlyScaledCGAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := brownBadlyScaledCGAnalyticGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func brownBadlyScaledCGAnalyticMinimize(x0 [2]float64, lim BrownBadlyScaledCGAna
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := brownBadlyScaledCGAnalyticConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(BrownBadlyScaledCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !brownBadlyScaledCGAnalyticFiniteVec(&g) {
-				return best.ending(BrownBadlyScaledCGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = brownBadlyScaledCGAnalyticVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func brownBadlyScaledCGAnalyticMinimize(x0 [2]float64, lim BrownBadlyScaledCGAna
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if brownBadlyScaledCGAnalyticStepWithin(&s, &x, lim.Step) {
-				calls, ok := brownBadlyScaledCGAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(BrownBadlyScaledCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !brownBadlyScaledCGAnalyticFiniteVec(&g) {
-					return best.ending(BrownBadlyScaledCGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = brownBadlyScaledCGAnalyticVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func brownBadlyScaledCGAnalyticMinimize(x0 [2]float64, lim BrownBadlyScaledCGAna
 			case found.rising:
 				end = BrownBadlyScaledCGAnalyticNoDecrease
 			case found.end == brownBadlyScaledCGAnalyticSearchTiny && canSettle:
-				calls, ok := brownBadlyScaledCGAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(BrownBadlyScaledCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !brownBadlyScaledCGAnalyticFiniteVec(&g) {
-					return best.ending(BrownBadlyScaledCGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = brownBadlyScaledCGAnalyticVerifyStall, true
 				continue
 			case found.end == brownBadlyScaledCGAnalyticSearchTiny:
 				end = BrownBadlyScaledCGAnalyticStalled
@@ -482,41 +470,30 @@ func brownBadlyScaledCGAnalyticScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
-// brownBadlyScaledCGAnalyticGradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func brownBadlyScaledCGAnalyticGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *brownBadlyScaledCGAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	brownBadlyScaledCGAnalyticVerifyNothing = iota
+	brownBadlyScaledCGAnalyticVerifyPass    // a difference gradient passed the test
+	brownBadlyScaledCGAnalyticVerifyStall   // no step makes progress
+)
 
-// brownBadlyScaledCGAnalyticGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func brownBadlyScaledCGAnalyticGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
-	scale := brownBadlyScaledCGAnalyticLarger(brownBadlyScaledCGAnalyticAbs(fx), 1)
-	for i := range g {
-		w := brownBadlyScaledCGAnalyticLarger(brownBadlyScaledCGAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = brownBadlyScaledCGAnalyticLarger(measure, (brownBadlyScaledCGAnalyticAbs(g[i])+e[i])*w)
-		floor = brownBadlyScaledCGAnalyticLarger(floor, e[i]*w)
+// brownBadlyScaledCGAnalyticSettle prepares a verdict at x: with differences it confirms the
+// gradient (brownBadlyScaledCGAnalyticConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (brownBadlyScaledCGAnalyticRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func brownBadlyScaledCGAnalyticSettle(x *[2]float64, fx float64, g, e *[2]float64, diffs *brownBadlyScaledCGAnalyticDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if brownBadlyScaledCGAnalyticDerivativeCost > 0 {
+		spent, ok := brownBadlyScaledCGAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// brownBadlyScaledCGAnalyticAbs returns |v|.
-func brownBadlyScaledCGAnalyticAbs(v float64) float64 {
-	if v < 0 {
-		return -v
+	if stall {
+		brownBadlyScaledCGAnalyticRoundingFloor(x, g, e, diffs)
 	}
-	return v
+	return calls, true
 }
 
 // brownBadlyScaledCGAnalyticConfirmGradient recomputes a difference gradient at x before the run is
@@ -549,33 +526,20 @@ func brownBadlyScaledCGAnalyticConfirmGradient(x *[2]float64, fx float64, g, e *
 	return calls + 2*brownBadlyScaledCGAnalyticDerivativeCost, true
 }
 
-// brownBadlyScaledCGAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func brownBadlyScaledCGAnalyticStepWithin(s, x *[2]float64, tol float64) bool {
-	for i := range s {
-		if !(brownBadlyScaledCGAnalyticAbs(s[i]) <= tol*(brownBadlyScaledCGAnalyticAbs(x[i])+1)) {
-			return false
-		}
+// brownBadlyScaledCGAnalyticGradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func brownBadlyScaledCGAnalyticGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *brownBadlyScaledCGAnalyticDifferences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// brownBadlyScaledCGAnalyticSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (brownBadlyScaledCGAnalyticConfirmGradient), then it adds to each error
-// bound the rounding floor of x (brownBadlyScaledCGAnalyticRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func brownBadlyScaledCGAnalyticSettle(x *[2]float64, fx float64, g, e *[2]float64, diffs *brownBadlyScaledCGAnalyticDifferences, budget int) (int, bool) {
-	calls := 0
-	if brownBadlyScaledCGAnalyticDerivativeCost > 0 {
-		spent, ok := brownBadlyScaledCGAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// brownBadlyScaledCGAnalyticAbs returns |v|.
+func brownBadlyScaledCGAnalyticAbs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	brownBadlyScaledCGAnalyticRoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // brownBadlyScaledCGAnalyticRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -618,6 +582,39 @@ func brownBadlyScaledCGAnalyticProbeStep(xi, h float64) (float64, float64) {
 // brownBadlyScaledCGAnalyticSquareRoot returns √v.
 func brownBadlyScaledCGAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// brownBadlyScaledCGAnalyticGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func brownBadlyScaledCGAnalyticGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
+	scale := brownBadlyScaledCGAnalyticLarger(brownBadlyScaledCGAnalyticAbs(fx), 1)
+	for i := range g {
+		w := brownBadlyScaledCGAnalyticLarger(brownBadlyScaledCGAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = brownBadlyScaledCGAnalyticLarger(measure, (brownBadlyScaledCGAnalyticAbs(g[i])+e[i])*w)
+		floor = brownBadlyScaledCGAnalyticLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// brownBadlyScaledCGAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func brownBadlyScaledCGAnalyticStepWithin(s, x *[2]float64, tol float64) bool {
+	for i := range s {
+		if !(brownBadlyScaledCGAnalyticAbs(s[i]) <= tol*(brownBadlyScaledCGAnalyticAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // brownBadlyScaledCGAnalyticTinyStep returns the longest t for which the step t·d from x passes the

@@ -190,11 +190,25 @@ func brownBadlyScaledCGCentralMinimize(x0 [2]float64, lim BrownBadlyScaledCGCent
 	t, slope := float64(brownBadlyScaledCGCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                           // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                                 // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                    // whether g and e at x come from brownBadlyScaledCGCentralConfirmGradient
+	confirmed := false                                                    // whether g and e at x come from brownBadlyScaledCGCentralConfirmGradient or settle
 	stalled := false                                                      // whether the run can make no more progress at x
 	retried := -1                                                         // the iteration whose stall was retried with recalibrated differences
+	verify := brownBadlyScaledCGCentralVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != brownBadlyScaledCGCentralVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see brownBadlyScaledCGCentralConfirmGradient and settle).
+			calls, ok := brownBadlyScaledCGCentralSettle(&x, fx, &g, &e, &diffs, verify == brownBadlyScaledCGCentralVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(BrownBadlyScaledCGCentralOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !brownBadlyScaledCGCentralFiniteVec(&g) {
+				return best.ending(BrownBadlyScaledCGCentralNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = brownBadlyScaledCGCentralVerifyNothing, true
+		case !confirmed:
 			brownBadlyScaledCGCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := brownBadlyScaledCGCentralGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func brownBadlyScaledCGCentralMinimize(x0 [2]float64, lim BrownBadlyScaledCGCent
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := brownBadlyScaledCGCentralConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(BrownBadlyScaledCGCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !brownBadlyScaledCGCentralFiniteVec(&g) {
-				return best.ending(BrownBadlyScaledCGCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = brownBadlyScaledCGCentralVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func brownBadlyScaledCGCentralMinimize(x0 [2]float64, lim BrownBadlyScaledCGCent
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if brownBadlyScaledCGCentralStepWithin(&s, &x, lim.Step) {
-				calls, ok := brownBadlyScaledCGCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(BrownBadlyScaledCGCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !brownBadlyScaledCGCentralFiniteVec(&g) {
-					return best.ending(BrownBadlyScaledCGCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = brownBadlyScaledCGCentralVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func brownBadlyScaledCGCentralMinimize(x0 [2]float64, lim BrownBadlyScaledCGCent
 			case found.rising:
 				end = BrownBadlyScaledCGCentralNoDecrease
 			case found.end == brownBadlyScaledCGCentralSearchTiny && canSettle:
-				calls, ok := brownBadlyScaledCGCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(BrownBadlyScaledCGCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !brownBadlyScaledCGCentralFiniteVec(&g) {
-					return best.ending(BrownBadlyScaledCGCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = brownBadlyScaledCGCentralVerifyStall, true
 				continue
 			case found.end == brownBadlyScaledCGCentralSearchTiny:
 				end = BrownBadlyScaledCGCentralStalled
@@ -615,37 +603,30 @@ func brownBadlyScaledCGCentralScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
-// brownBadlyScaledCGCentralGradientError bounds each central difference's error by twice its
-// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
-// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
-// in forwardError).
-func brownBadlyScaledCGCentralGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *brownBadlyScaledCGCentralDifferences) {
-	noise := brownBadlyScaledCGCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h := diffs.ratio[i] * brownBadlyScaledCGCentralLarger(1, brownBadlyScaledCGCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	brownBadlyScaledCGCentralVerifyNothing = iota
+	brownBadlyScaledCGCentralVerifyPass    // a difference gradient passed the test
+	brownBadlyScaledCGCentralVerifyStall   // no step makes progress
+)
 
-// brownBadlyScaledCGCentralGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func brownBadlyScaledCGCentralGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
-	scale := brownBadlyScaledCGCentralLarger(brownBadlyScaledCGCentralAbs(fx), 1)
-	for i := range g {
-		w := brownBadlyScaledCGCentralLarger(brownBadlyScaledCGCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = brownBadlyScaledCGCentralLarger(measure, (brownBadlyScaledCGCentralAbs(g[i])+e[i])*w)
-		floor = brownBadlyScaledCGCentralLarger(floor, e[i]*w)
+// brownBadlyScaledCGCentralSettle prepares a verdict at x: with differences it confirms the
+// gradient (brownBadlyScaledCGCentralConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (brownBadlyScaledCGCentralRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func brownBadlyScaledCGCentralSettle(x *[2]float64, fx float64, g, e *[2]float64, diffs *brownBadlyScaledCGCentralDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if brownBadlyScaledCGCentralDerivativeCost > 0 {
+		spent, ok := brownBadlyScaledCGCentralConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
+	if stall {
+		brownBadlyScaledCGCentralRoundingFloor(x, g, e, diffs)
+	}
+	return calls, true
 }
 
 // brownBadlyScaledCGCentralConfirmGradient recomputes a difference gradient at x before the run is
@@ -678,33 +659,16 @@ func brownBadlyScaledCGCentralConfirmGradient(x *[2]float64, fx float64, g, e *[
 	return calls + 2*brownBadlyScaledCGCentralDerivativeCost, true
 }
 
-// brownBadlyScaledCGCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func brownBadlyScaledCGCentralStepWithin(s, x *[2]float64, tol float64) bool {
-	for i := range s {
-		if !(brownBadlyScaledCGCentralAbs(s[i]) <= tol*(brownBadlyScaledCGCentralAbs(x[i])+1)) {
-			return false
-		}
+// brownBadlyScaledCGCentralGradientError bounds each central difference's error by twice its
+// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
+// in forwardError).
+func brownBadlyScaledCGCentralGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *brownBadlyScaledCGCentralDifferences) {
+	noise := brownBadlyScaledCGCentralNoiseLevel(x, fx, g)
+	for i := range e {
+		h := diffs.ratio[i] * brownBadlyScaledCGCentralLarger(1, brownBadlyScaledCGCentralAbs(x[i]))
+		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
 	}
-	return true
-}
-
-// brownBadlyScaledCGCentralSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (brownBadlyScaledCGCentralConfirmGradient), then it adds to each error
-// bound the rounding floor of x (brownBadlyScaledCGCentralRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func brownBadlyScaledCGCentralSettle(x *[2]float64, fx float64, g, e *[2]float64, diffs *brownBadlyScaledCGCentralDifferences, budget int) (int, bool) {
-	calls := 0
-	if brownBadlyScaledCGCentralDerivativeCost > 0 {
-		spent, ok := brownBadlyScaledCGCentralConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
-	}
-	brownBadlyScaledCGCentralRoundingFloor(x, g, e, diffs)
-	return calls, true
 }
 
 // brownBadlyScaledCGCentralRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -725,6 +689,39 @@ func brownBadlyScaledCGCentralRoundingFloor(x, g, e *[2]float64, diffs *brownBad
 // calibration, which brownBadlyScaledCGCentralConfirmGradient has just made at x.
 func brownBadlyScaledCGCentralDiagonalCurvature(x, g *[2]float64, diffs *brownBadlyScaledCGCentralDifferences, h *[2]float64) {
 	*h = diffs.second
+}
+
+// brownBadlyScaledCGCentralGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func brownBadlyScaledCGCentralGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
+	scale := brownBadlyScaledCGCentralLarger(brownBadlyScaledCGCentralAbs(fx), 1)
+	for i := range g {
+		w := brownBadlyScaledCGCentralLarger(brownBadlyScaledCGCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = brownBadlyScaledCGCentralLarger(measure, (brownBadlyScaledCGCentralAbs(g[i])+e[i])*w)
+		floor = brownBadlyScaledCGCentralLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// brownBadlyScaledCGCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func brownBadlyScaledCGCentralStepWithin(s, x *[2]float64, tol float64) bool {
+	for i := range s {
+		if !(brownBadlyScaledCGCentralAbs(s[i]) <= tol*(brownBadlyScaledCGCentralAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // brownBadlyScaledCGCentralTinyStep returns the longest t for which the step t·d from x passes the

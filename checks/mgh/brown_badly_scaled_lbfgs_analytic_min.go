@@ -191,11 +191,25 @@ func brownBadlyScaledLBFGSAnalyticMinimize(x0 [2]float64, lim BrownBadlyScaledLB
 	t, slope := float64(brownBadlyScaledLBFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                               // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                                     // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                        // whether g and e at x come from brownBadlyScaledLBFGSAnalyticConfirmGradient
+	confirmed := false                                                        // whether g and e at x come from brownBadlyScaledLBFGSAnalyticConfirmGradient or settle
 	stalled := false                                                          // whether the run can make no more progress at x
 	retried := -1                                                             // the iteration whose stall was retried with recalibrated differences
+	verify := brownBadlyScaledLBFGSAnalyticVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != brownBadlyScaledLBFGSAnalyticVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see brownBadlyScaledLBFGSAnalyticConfirmGradient and settle).
+			calls, ok := brownBadlyScaledLBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, verify == brownBadlyScaledLBFGSAnalyticVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(BrownBadlyScaledLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !brownBadlyScaledLBFGSAnalyticFiniteVec(&g) {
+				return best.ending(BrownBadlyScaledLBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = brownBadlyScaledLBFGSAnalyticVerifyNothing, true
+		case !confirmed:
 			brownBadlyScaledLBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := brownBadlyScaledLBFGSAnalyticGradientMeasure(&g, &e, &x, fx)
@@ -213,17 +227,7 @@ func brownBadlyScaledLBFGSAnalyticMinimize(x0 [2]float64, lim BrownBadlyScaledLB
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := brownBadlyScaledLBFGSAnalyticConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(BrownBadlyScaledLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !brownBadlyScaledLBFGSAnalyticFiniteVec(&g) {
-				return best.ending(BrownBadlyScaledLBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = brownBadlyScaledLBFGSAnalyticVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -241,15 +245,7 @@ func brownBadlyScaledLBFGSAnalyticMinimize(x0 [2]float64, lim BrownBadlyScaledLB
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if brownBadlyScaledLBFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				calls, ok := brownBadlyScaledLBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(BrownBadlyScaledLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !brownBadlyScaledLBFGSAnalyticFiniteVec(&g) {
-					return best.ending(BrownBadlyScaledLBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = brownBadlyScaledLBFGSAnalyticVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -290,15 +286,7 @@ func brownBadlyScaledLBFGSAnalyticMinimize(x0 [2]float64, lim BrownBadlyScaledLB
 			case found.rising:
 				end = BrownBadlyScaledLBFGSAnalyticNoDecrease
 			case found.end == brownBadlyScaledLBFGSAnalyticSearchTiny && canSettle:
-				calls, ok := brownBadlyScaledLBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(BrownBadlyScaledLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !brownBadlyScaledLBFGSAnalyticFiniteVec(&g) {
-					return best.ending(BrownBadlyScaledLBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = brownBadlyScaledLBFGSAnalyticVerifyStall, true
 				continue
 			case found.end == brownBadlyScaledLBFGSAnalyticSearchTiny:
 				end = BrownBadlyScaledLBFGSAnalyticStalled
@@ -516,51 +504,30 @@ func brownBadlyScaledLBFGSAnalyticCurvatureSafe(s, y *[2]float64) bool {
 	return sy > 0 && (sy/brownBadlyScaledLBFGSAnalyticDot(s, s))*(sy/brownBadlyScaledLBFGSAnalyticDot(y, y)) > brownBadlyScaledLBFGSAnalyticUnitRoundoff
 }
 
-// brownBadlyScaledLBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func brownBadlyScaledLBFGSAnalyticGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *brownBadlyScaledLBFGSAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	brownBadlyScaledLBFGSAnalyticVerifyNothing = iota
+	brownBadlyScaledLBFGSAnalyticVerifyPass    // a difference gradient passed the test
+	brownBadlyScaledLBFGSAnalyticVerifyStall   // no step makes progress
+)
 
-// brownBadlyScaledLBFGSAnalyticGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func brownBadlyScaledLBFGSAnalyticGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
-	scale := brownBadlyScaledLBFGSAnalyticLarger(brownBadlyScaledLBFGSAnalyticAbs(fx), 1)
-	for i := range g {
-		w := brownBadlyScaledLBFGSAnalyticLarger(brownBadlyScaledLBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = brownBadlyScaledLBFGSAnalyticLarger(measure, (brownBadlyScaledLBFGSAnalyticAbs(g[i])+e[i])*w)
-		floor = brownBadlyScaledLBFGSAnalyticLarger(floor, e[i]*w)
+// brownBadlyScaledLBFGSAnalyticSettle prepares a verdict at x: with differences it confirms the
+// gradient (brownBadlyScaledLBFGSAnalyticConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (brownBadlyScaledLBFGSAnalyticRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func brownBadlyScaledLBFGSAnalyticSettle(x *[2]float64, fx float64, g, e *[2]float64, diffs *brownBadlyScaledLBFGSAnalyticDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if brownBadlyScaledLBFGSAnalyticDerivativeCost > 0 {
+		spent, ok := brownBadlyScaledLBFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// brownBadlyScaledLBFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func brownBadlyScaledLBFGSAnalyticLarger(a, b float64) float64 {
-	if a > b || a != a {
-		return a
+	if stall {
+		brownBadlyScaledLBFGSAnalyticRoundingFloor(x, g, e, diffs)
 	}
-	return b
-}
-
-// brownBadlyScaledLBFGSAnalyticAbs returns |v|.
-func brownBadlyScaledLBFGSAnalyticAbs(v float64) float64 {
-	if v < 0 {
-		return -v
-	}
-	return v
+	return calls, true
 }
 
 // brownBadlyScaledLBFGSAnalyticConfirmGradient recomputes a difference gradient at x before the run is
@@ -593,33 +560,20 @@ func brownBadlyScaledLBFGSAnalyticConfirmGradient(x *[2]float64, fx float64, g, 
 	return calls + 2*brownBadlyScaledLBFGSAnalyticDerivativeCost, true
 }
 
-// brownBadlyScaledLBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func brownBadlyScaledLBFGSAnalyticStepWithin(s, x *[2]float64, tol float64) bool {
-	for i := range s {
-		if !(brownBadlyScaledLBFGSAnalyticAbs(s[i]) <= tol*(brownBadlyScaledLBFGSAnalyticAbs(x[i])+1)) {
-			return false
-		}
+// brownBadlyScaledLBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func brownBadlyScaledLBFGSAnalyticGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *brownBadlyScaledLBFGSAnalyticDifferences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// brownBadlyScaledLBFGSAnalyticSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (brownBadlyScaledLBFGSAnalyticConfirmGradient), then it adds to each error
-// bound the rounding floor of x (brownBadlyScaledLBFGSAnalyticRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func brownBadlyScaledLBFGSAnalyticSettle(x *[2]float64, fx float64, g, e *[2]float64, diffs *brownBadlyScaledLBFGSAnalyticDifferences, budget int) (int, bool) {
-	calls := 0
-	if brownBadlyScaledLBFGSAnalyticDerivativeCost > 0 {
-		spent, ok := brownBadlyScaledLBFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// brownBadlyScaledLBFGSAnalyticAbs returns |v|.
+func brownBadlyScaledLBFGSAnalyticAbs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	brownBadlyScaledLBFGSAnalyticRoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // brownBadlyScaledLBFGSAnalyticRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -662,6 +616,49 @@ func brownBadlyScaledLBFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
 // brownBadlyScaledLBFGSAnalyticSquareRoot returns √v.
 func brownBadlyScaledLBFGSAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// brownBadlyScaledLBFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func brownBadlyScaledLBFGSAnalyticLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// brownBadlyScaledLBFGSAnalyticGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func brownBadlyScaledLBFGSAnalyticGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
+	scale := brownBadlyScaledLBFGSAnalyticLarger(brownBadlyScaledLBFGSAnalyticAbs(fx), 1)
+	for i := range g {
+		w := brownBadlyScaledLBFGSAnalyticLarger(brownBadlyScaledLBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = brownBadlyScaledLBFGSAnalyticLarger(measure, (brownBadlyScaledLBFGSAnalyticAbs(g[i])+e[i])*w)
+		floor = brownBadlyScaledLBFGSAnalyticLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// brownBadlyScaledLBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func brownBadlyScaledLBFGSAnalyticStepWithin(s, x *[2]float64, tol float64) bool {
+	for i := range s {
+		if !(brownBadlyScaledLBFGSAnalyticAbs(s[i]) <= tol*(brownBadlyScaledLBFGSAnalyticAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // brownBadlyScaledLBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the

@@ -191,11 +191,25 @@ func brownBadlyScaledLBFGSCentralMinimize(x0 [2]float64, lim BrownBadlyScaledLBF
 	t, slope := float64(brownBadlyScaledLBFGSCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                              // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                                    // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                       // whether g and e at x come from brownBadlyScaledLBFGSCentralConfirmGradient
+	confirmed := false                                                       // whether g and e at x come from brownBadlyScaledLBFGSCentralConfirmGradient or settle
 	stalled := false                                                         // whether the run can make no more progress at x
 	retried := -1                                                            // the iteration whose stall was retried with recalibrated differences
+	verify := brownBadlyScaledLBFGSCentralVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != brownBadlyScaledLBFGSCentralVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see brownBadlyScaledLBFGSCentralConfirmGradient and settle).
+			calls, ok := brownBadlyScaledLBFGSCentralSettle(&x, fx, &g, &e, &diffs, verify == brownBadlyScaledLBFGSCentralVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(BrownBadlyScaledLBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !brownBadlyScaledLBFGSCentralFiniteVec(&g) {
+				return best.ending(BrownBadlyScaledLBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = brownBadlyScaledLBFGSCentralVerifyNothing, true
+		case !confirmed:
 			brownBadlyScaledLBFGSCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := brownBadlyScaledLBFGSCentralGradientMeasure(&g, &e, &x, fx)
@@ -213,17 +227,7 @@ func brownBadlyScaledLBFGSCentralMinimize(x0 [2]float64, lim BrownBadlyScaledLBF
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := brownBadlyScaledLBFGSCentralConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(BrownBadlyScaledLBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !brownBadlyScaledLBFGSCentralFiniteVec(&g) {
-				return best.ending(BrownBadlyScaledLBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = brownBadlyScaledLBFGSCentralVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -241,15 +245,7 @@ func brownBadlyScaledLBFGSCentralMinimize(x0 [2]float64, lim BrownBadlyScaledLBF
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if brownBadlyScaledLBFGSCentralStepWithin(&s, &x, lim.Step) {
-				calls, ok := brownBadlyScaledLBFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(BrownBadlyScaledLBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !brownBadlyScaledLBFGSCentralFiniteVec(&g) {
-					return best.ending(BrownBadlyScaledLBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = brownBadlyScaledLBFGSCentralVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -290,15 +286,7 @@ func brownBadlyScaledLBFGSCentralMinimize(x0 [2]float64, lim BrownBadlyScaledLBF
 			case found.rising:
 				end = BrownBadlyScaledLBFGSCentralNoDecrease
 			case found.end == brownBadlyScaledLBFGSCentralSearchTiny && canSettle:
-				calls, ok := brownBadlyScaledLBFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(BrownBadlyScaledLBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !brownBadlyScaledLBFGSCentralFiniteVec(&g) {
-					return best.ending(BrownBadlyScaledLBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = brownBadlyScaledLBFGSCentralVerifyStall, true
 				continue
 			case found.end == brownBadlyScaledLBFGSCentralSearchTiny:
 				end = BrownBadlyScaledLBFGSCentralStalled
@@ -659,37 +647,30 @@ func brownBadlyScaledLBFGSCentralCurvatureSafe(s, y *[2]float64) bool {
 	return sy > 0 && (sy/brownBadlyScaledLBFGSCentralDot(s, s))*(sy/brownBadlyScaledLBFGSCentralDot(y, y)) > brownBadlyScaledLBFGSCentralUnitRoundoff
 }
 
-// brownBadlyScaledLBFGSCentralGradientError bounds each central difference's error by twice its
-// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
-// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
-// in forwardError).
-func brownBadlyScaledLBFGSCentralGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *brownBadlyScaledLBFGSCentralDifferences) {
-	noise := brownBadlyScaledLBFGSCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h := diffs.ratio[i] * brownBadlyScaledLBFGSCentralLarger(1, brownBadlyScaledLBFGSCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	brownBadlyScaledLBFGSCentralVerifyNothing = iota
+	brownBadlyScaledLBFGSCentralVerifyPass    // a difference gradient passed the test
+	brownBadlyScaledLBFGSCentralVerifyStall   // no step makes progress
+)
 
-// brownBadlyScaledLBFGSCentralGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func brownBadlyScaledLBFGSCentralGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
-	scale := brownBadlyScaledLBFGSCentralLarger(brownBadlyScaledLBFGSCentralAbs(fx), 1)
-	for i := range g {
-		w := brownBadlyScaledLBFGSCentralLarger(brownBadlyScaledLBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = brownBadlyScaledLBFGSCentralLarger(measure, (brownBadlyScaledLBFGSCentralAbs(g[i])+e[i])*w)
-		floor = brownBadlyScaledLBFGSCentralLarger(floor, e[i]*w)
+// brownBadlyScaledLBFGSCentralSettle prepares a verdict at x: with differences it confirms the
+// gradient (brownBadlyScaledLBFGSCentralConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (brownBadlyScaledLBFGSCentralRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func brownBadlyScaledLBFGSCentralSettle(x *[2]float64, fx float64, g, e *[2]float64, diffs *brownBadlyScaledLBFGSCentralDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if brownBadlyScaledLBFGSCentralDerivativeCost > 0 {
+		spent, ok := brownBadlyScaledLBFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
+	if stall {
+		brownBadlyScaledLBFGSCentralRoundingFloor(x, g, e, diffs)
+	}
+	return calls, true
 }
 
 // brownBadlyScaledLBFGSCentralConfirmGradient recomputes a difference gradient at x before the run is
@@ -722,33 +703,16 @@ func brownBadlyScaledLBFGSCentralConfirmGradient(x *[2]float64, fx float64, g, e
 	return calls + 2*brownBadlyScaledLBFGSCentralDerivativeCost, true
 }
 
-// brownBadlyScaledLBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func brownBadlyScaledLBFGSCentralStepWithin(s, x *[2]float64, tol float64) bool {
-	for i := range s {
-		if !(brownBadlyScaledLBFGSCentralAbs(s[i]) <= tol*(brownBadlyScaledLBFGSCentralAbs(x[i])+1)) {
-			return false
-		}
+// brownBadlyScaledLBFGSCentralGradientError bounds each central difference's error by twice its
+// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
+// in forwardError).
+func brownBadlyScaledLBFGSCentralGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *brownBadlyScaledLBFGSCentralDifferences) {
+	noise := brownBadlyScaledLBFGSCentralNoiseLevel(x, fx, g)
+	for i := range e {
+		h := diffs.ratio[i] * brownBadlyScaledLBFGSCentralLarger(1, brownBadlyScaledLBFGSCentralAbs(x[i]))
+		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
 	}
-	return true
-}
-
-// brownBadlyScaledLBFGSCentralSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (brownBadlyScaledLBFGSCentralConfirmGradient), then it adds to each error
-// bound the rounding floor of x (brownBadlyScaledLBFGSCentralRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func brownBadlyScaledLBFGSCentralSettle(x *[2]float64, fx float64, g, e *[2]float64, diffs *brownBadlyScaledLBFGSCentralDifferences, budget int) (int, bool) {
-	calls := 0
-	if brownBadlyScaledLBFGSCentralDerivativeCost > 0 {
-		spent, ok := brownBadlyScaledLBFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
-	}
-	brownBadlyScaledLBFGSCentralRoundingFloor(x, g, e, diffs)
-	return calls, true
 }
 
 // brownBadlyScaledLBFGSCentralRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -769,6 +733,39 @@ func brownBadlyScaledLBFGSCentralRoundingFloor(x, g, e *[2]float64, diffs *brown
 // calibration, which brownBadlyScaledLBFGSCentralConfirmGradient has just made at x.
 func brownBadlyScaledLBFGSCentralDiagonalCurvature(x, g *[2]float64, diffs *brownBadlyScaledLBFGSCentralDifferences, h *[2]float64) {
 	*h = diffs.second
+}
+
+// brownBadlyScaledLBFGSCentralGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func brownBadlyScaledLBFGSCentralGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
+	scale := brownBadlyScaledLBFGSCentralLarger(brownBadlyScaledLBFGSCentralAbs(fx), 1)
+	for i := range g {
+		w := brownBadlyScaledLBFGSCentralLarger(brownBadlyScaledLBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = brownBadlyScaledLBFGSCentralLarger(measure, (brownBadlyScaledLBFGSCentralAbs(g[i])+e[i])*w)
+		floor = brownBadlyScaledLBFGSCentralLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// brownBadlyScaledLBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func brownBadlyScaledLBFGSCentralStepWithin(s, x *[2]float64, tol float64) bool {
+	for i := range s {
+		if !(brownBadlyScaledLBFGSCentralAbs(s[i]) <= tol*(brownBadlyScaledLBFGSCentralAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // brownBadlyScaledLBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the

@@ -190,11 +190,25 @@ func brownDennisBFGSAnalyticMinimize(x0 [4]float64, lim BrownDennisBFGSAnalyticL
 	t, slope := float64(brownDennisBFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                         // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                               // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                  // whether g and e at x come from brownDennisBFGSAnalyticConfirmGradient
+	confirmed := false                                                  // whether g and e at x come from brownDennisBFGSAnalyticConfirmGradient or settle
 	stalled := false                                                    // whether the run can make no more progress at x
 	retried := -1                                                       // the iteration whose stall was retried with recalibrated differences
+	verify := brownDennisBFGSAnalyticVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != brownDennisBFGSAnalyticVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see brownDennisBFGSAnalyticConfirmGradient and settle).
+			calls, ok := brownDennisBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, verify == brownDennisBFGSAnalyticVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(BrownDennisBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !brownDennisBFGSAnalyticFiniteVec(&g) {
+				return best.ending(BrownDennisBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = brownDennisBFGSAnalyticVerifyNothing, true
+		case !confirmed:
 			brownDennisBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := brownDennisBFGSAnalyticGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func brownDennisBFGSAnalyticMinimize(x0 [4]float64, lim BrownDennisBFGSAnalyticL
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := brownDennisBFGSAnalyticConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(BrownDennisBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !brownDennisBFGSAnalyticFiniteVec(&g) {
-				return best.ending(BrownDennisBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = brownDennisBFGSAnalyticVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func brownDennisBFGSAnalyticMinimize(x0 [4]float64, lim BrownDennisBFGSAnalyticL
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if brownDennisBFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				calls, ok := brownDennisBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(BrownDennisBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !brownDennisBFGSAnalyticFiniteVec(&g) {
-					return best.ending(BrownDennisBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = brownDennisBFGSAnalyticVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func brownDennisBFGSAnalyticMinimize(x0 [4]float64, lim BrownDennisBFGSAnalyticL
 			case found.rising:
 				end = BrownDennisBFGSAnalyticNoDecrease
 			case found.end == brownDennisBFGSAnalyticSearchTiny && canSettle:
-				calls, ok := brownDennisBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(BrownDennisBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !brownDennisBFGSAnalyticFiniteVec(&g) {
-					return best.ending(BrownDennisBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = brownDennisBFGSAnalyticVerifyStall, true
 				continue
 			case found.end == brownDennisBFGSAnalyticSearchTiny:
 				end = BrownDennisBFGSAnalyticStalled
@@ -490,51 +478,30 @@ func brownDennisBFGSAnalyticCurvatureSafe(s, y *[4]float64) bool {
 	return sy > 0 && (sy/brownDennisBFGSAnalyticDot(s, s))*(sy/brownDennisBFGSAnalyticDot(y, y)) > brownDennisBFGSAnalyticUnitRoundoff
 }
 
-// brownDennisBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func brownDennisBFGSAnalyticGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *brownDennisBFGSAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	brownDennisBFGSAnalyticVerifyNothing = iota
+	brownDennisBFGSAnalyticVerifyPass    // a difference gradient passed the test
+	brownDennisBFGSAnalyticVerifyStall   // no step makes progress
+)
 
-// brownDennisBFGSAnalyticGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func brownDennisBFGSAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
-	scale := brownDennisBFGSAnalyticLarger(brownDennisBFGSAnalyticAbs(fx), 1)
-	for i := range g {
-		w := brownDennisBFGSAnalyticLarger(brownDennisBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = brownDennisBFGSAnalyticLarger(measure, (brownDennisBFGSAnalyticAbs(g[i])+e[i])*w)
-		floor = brownDennisBFGSAnalyticLarger(floor, e[i]*w)
+// brownDennisBFGSAnalyticSettle prepares a verdict at x: with differences it confirms the
+// gradient (brownDennisBFGSAnalyticConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (brownDennisBFGSAnalyticRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func brownDennisBFGSAnalyticSettle(x *[4]float64, fx float64, g, e *[4]float64, diffs *brownDennisBFGSAnalyticDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if brownDennisBFGSAnalyticDerivativeCost > 0 {
+		spent, ok := brownDennisBFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// brownDennisBFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func brownDennisBFGSAnalyticLarger(a, b float64) float64 {
-	if a > b || a != a {
-		return a
+	if stall {
+		brownDennisBFGSAnalyticRoundingFloor(x, g, e, diffs)
 	}
-	return b
-}
-
-// brownDennisBFGSAnalyticAbs returns |v|.
-func brownDennisBFGSAnalyticAbs(v float64) float64 {
-	if v < 0 {
-		return -v
-	}
-	return v
+	return calls, true
 }
 
 // brownDennisBFGSAnalyticConfirmGradient recomputes a difference gradient at x before the run is
@@ -567,33 +534,20 @@ func brownDennisBFGSAnalyticConfirmGradient(x *[4]float64, fx float64, g, e *[4]
 	return calls + 2*brownDennisBFGSAnalyticDerivativeCost, true
 }
 
-// brownDennisBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func brownDennisBFGSAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
-	for i := range s {
-		if !(brownDennisBFGSAnalyticAbs(s[i]) <= tol*(brownDennisBFGSAnalyticAbs(x[i])+1)) {
-			return false
-		}
+// brownDennisBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func brownDennisBFGSAnalyticGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *brownDennisBFGSAnalyticDifferences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// brownDennisBFGSAnalyticSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (brownDennisBFGSAnalyticConfirmGradient), then it adds to each error
-// bound the rounding floor of x (brownDennisBFGSAnalyticRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func brownDennisBFGSAnalyticSettle(x *[4]float64, fx float64, g, e *[4]float64, diffs *brownDennisBFGSAnalyticDifferences, budget int) (int, bool) {
-	calls := 0
-	if brownDennisBFGSAnalyticDerivativeCost > 0 {
-		spent, ok := brownDennisBFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// brownDennisBFGSAnalyticAbs returns |v|.
+func brownDennisBFGSAnalyticAbs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	brownDennisBFGSAnalyticRoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // brownDennisBFGSAnalyticRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -636,6 +590,49 @@ func brownDennisBFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
 // brownDennisBFGSAnalyticSquareRoot returns √v.
 func brownDennisBFGSAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// brownDennisBFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func brownDennisBFGSAnalyticLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// brownDennisBFGSAnalyticGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func brownDennisBFGSAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
+	scale := brownDennisBFGSAnalyticLarger(brownDennisBFGSAnalyticAbs(fx), 1)
+	for i := range g {
+		w := brownDennisBFGSAnalyticLarger(brownDennisBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = brownDennisBFGSAnalyticLarger(measure, (brownDennisBFGSAnalyticAbs(g[i])+e[i])*w)
+		floor = brownDennisBFGSAnalyticLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// brownDennisBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func brownDennisBFGSAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
+	for i := range s {
+		if !(brownDennisBFGSAnalyticAbs(s[i]) <= tol*(brownDennisBFGSAnalyticAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // brownDennisBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the

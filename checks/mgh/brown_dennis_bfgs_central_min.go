@@ -190,11 +190,25 @@ func brownDennisBFGSCentralMinimize(x0 [4]float64, lim BrownDennisBFGSCentralLim
 	t, slope := float64(brownDennisBFGSCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                        // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                              // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                 // whether g and e at x come from brownDennisBFGSCentralConfirmGradient
+	confirmed := false                                                 // whether g and e at x come from brownDennisBFGSCentralConfirmGradient or settle
 	stalled := false                                                   // whether the run can make no more progress at x
 	retried := -1                                                      // the iteration whose stall was retried with recalibrated differences
+	verify := brownDennisBFGSCentralVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != brownDennisBFGSCentralVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see brownDennisBFGSCentralConfirmGradient and settle).
+			calls, ok := brownDennisBFGSCentralSettle(&x, fx, &g, &e, &diffs, verify == brownDennisBFGSCentralVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(BrownDennisBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !brownDennisBFGSCentralFiniteVec(&g) {
+				return best.ending(BrownDennisBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = brownDennisBFGSCentralVerifyNothing, true
+		case !confirmed:
 			brownDennisBFGSCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := brownDennisBFGSCentralGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func brownDennisBFGSCentralMinimize(x0 [4]float64, lim BrownDennisBFGSCentralLim
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := brownDennisBFGSCentralConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(BrownDennisBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !brownDennisBFGSCentralFiniteVec(&g) {
-				return best.ending(BrownDennisBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = brownDennisBFGSCentralVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func brownDennisBFGSCentralMinimize(x0 [4]float64, lim BrownDennisBFGSCentralLim
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if brownDennisBFGSCentralStepWithin(&s, &x, lim.Step) {
-				calls, ok := brownDennisBFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(BrownDennisBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !brownDennisBFGSCentralFiniteVec(&g) {
-					return best.ending(BrownDennisBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = brownDennisBFGSCentralVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func brownDennisBFGSCentralMinimize(x0 [4]float64, lim BrownDennisBFGSCentralLim
 			case found.rising:
 				end = BrownDennisBFGSCentralNoDecrease
 			case found.end == brownDennisBFGSCentralSearchTiny && canSettle:
-				calls, ok := brownDennisBFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(BrownDennisBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !brownDennisBFGSCentralFiniteVec(&g) {
-					return best.ending(BrownDennisBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = brownDennisBFGSCentralVerifyStall, true
 				continue
 			case found.end == brownDennisBFGSCentralSearchTiny:
 				end = BrownDennisBFGSCentralStalled
@@ -633,37 +621,30 @@ func brownDennisBFGSCentralCurvatureSafe(s, y *[4]float64) bool {
 	return sy > 0 && (sy/brownDennisBFGSCentralDot(s, s))*(sy/brownDennisBFGSCentralDot(y, y)) > brownDennisBFGSCentralUnitRoundoff
 }
 
-// brownDennisBFGSCentralGradientError bounds each central difference's error by twice its
-// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
-// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
-// in forwardError).
-func brownDennisBFGSCentralGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *brownDennisBFGSCentralDifferences) {
-	noise := brownDennisBFGSCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h := diffs.ratio[i] * brownDennisBFGSCentralLarger(1, brownDennisBFGSCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	brownDennisBFGSCentralVerifyNothing = iota
+	brownDennisBFGSCentralVerifyPass    // a difference gradient passed the test
+	brownDennisBFGSCentralVerifyStall   // no step makes progress
+)
 
-// brownDennisBFGSCentralGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func brownDennisBFGSCentralGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
-	scale := brownDennisBFGSCentralLarger(brownDennisBFGSCentralAbs(fx), 1)
-	for i := range g {
-		w := brownDennisBFGSCentralLarger(brownDennisBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = brownDennisBFGSCentralLarger(measure, (brownDennisBFGSCentralAbs(g[i])+e[i])*w)
-		floor = brownDennisBFGSCentralLarger(floor, e[i]*w)
+// brownDennisBFGSCentralSettle prepares a verdict at x: with differences it confirms the
+// gradient (brownDennisBFGSCentralConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (brownDennisBFGSCentralRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func brownDennisBFGSCentralSettle(x *[4]float64, fx float64, g, e *[4]float64, diffs *brownDennisBFGSCentralDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if brownDennisBFGSCentralDerivativeCost > 0 {
+		spent, ok := brownDennisBFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
+	if stall {
+		brownDennisBFGSCentralRoundingFloor(x, g, e, diffs)
+	}
+	return calls, true
 }
 
 // brownDennisBFGSCentralConfirmGradient recomputes a difference gradient at x before the run is
@@ -696,33 +677,16 @@ func brownDennisBFGSCentralConfirmGradient(x *[4]float64, fx float64, g, e *[4]f
 	return calls + 2*brownDennisBFGSCentralDerivativeCost, true
 }
 
-// brownDennisBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func brownDennisBFGSCentralStepWithin(s, x *[4]float64, tol float64) bool {
-	for i := range s {
-		if !(brownDennisBFGSCentralAbs(s[i]) <= tol*(brownDennisBFGSCentralAbs(x[i])+1)) {
-			return false
-		}
+// brownDennisBFGSCentralGradientError bounds each central difference's error by twice its
+// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
+// in forwardError).
+func brownDennisBFGSCentralGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *brownDennisBFGSCentralDifferences) {
+	noise := brownDennisBFGSCentralNoiseLevel(x, fx, g)
+	for i := range e {
+		h := diffs.ratio[i] * brownDennisBFGSCentralLarger(1, brownDennisBFGSCentralAbs(x[i]))
+		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
 	}
-	return true
-}
-
-// brownDennisBFGSCentralSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (brownDennisBFGSCentralConfirmGradient), then it adds to each error
-// bound the rounding floor of x (brownDennisBFGSCentralRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func brownDennisBFGSCentralSettle(x *[4]float64, fx float64, g, e *[4]float64, diffs *brownDennisBFGSCentralDifferences, budget int) (int, bool) {
-	calls := 0
-	if brownDennisBFGSCentralDerivativeCost > 0 {
-		spent, ok := brownDennisBFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
-	}
-	brownDennisBFGSCentralRoundingFloor(x, g, e, diffs)
-	return calls, true
 }
 
 // brownDennisBFGSCentralRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -743,6 +707,39 @@ func brownDennisBFGSCentralRoundingFloor(x, g, e *[4]float64, diffs *brownDennis
 // calibration, which brownDennisBFGSCentralConfirmGradient has just made at x.
 func brownDennisBFGSCentralDiagonalCurvature(x, g *[4]float64, diffs *brownDennisBFGSCentralDifferences, h *[4]float64) {
 	*h = diffs.second
+}
+
+// brownDennisBFGSCentralGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func brownDennisBFGSCentralGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
+	scale := brownDennisBFGSCentralLarger(brownDennisBFGSCentralAbs(fx), 1)
+	for i := range g {
+		w := brownDennisBFGSCentralLarger(brownDennisBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = brownDennisBFGSCentralLarger(measure, (brownDennisBFGSCentralAbs(g[i])+e[i])*w)
+		floor = brownDennisBFGSCentralLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// brownDennisBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func brownDennisBFGSCentralStepWithin(s, x *[4]float64, tol float64) bool {
+	for i := range s {
+		if !(brownDennisBFGSCentralAbs(s[i]) <= tol*(brownDennisBFGSCentralAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // brownDennisBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the

@@ -190,11 +190,25 @@ func brownDennisCGAnalyticMinimize(x0 [4]float64, lim BrownDennisCGAnalyticLimit
 	t, slope := float64(brownDennisCGAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                       // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                             // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                // whether g and e at x come from brownDennisCGAnalyticConfirmGradient
+	confirmed := false                                                // whether g and e at x come from brownDennisCGAnalyticConfirmGradient or settle
 	stalled := false                                                  // whether the run can make no more progress at x
 	retried := -1                                                     // the iteration whose stall was retried with recalibrated differences
+	verify := brownDennisCGAnalyticVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != brownDennisCGAnalyticVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see brownDennisCGAnalyticConfirmGradient and settle).
+			calls, ok := brownDennisCGAnalyticSettle(&x, fx, &g, &e, &diffs, verify == brownDennisCGAnalyticVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(BrownDennisCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !brownDennisCGAnalyticFiniteVec(&g) {
+				return best.ending(BrownDennisCGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = brownDennisCGAnalyticVerifyNothing, true
+		case !confirmed:
 			brownDennisCGAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := brownDennisCGAnalyticGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func brownDennisCGAnalyticMinimize(x0 [4]float64, lim BrownDennisCGAnalyticLimit
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := brownDennisCGAnalyticConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(BrownDennisCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !brownDennisCGAnalyticFiniteVec(&g) {
-				return best.ending(BrownDennisCGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = brownDennisCGAnalyticVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func brownDennisCGAnalyticMinimize(x0 [4]float64, lim BrownDennisCGAnalyticLimit
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if brownDennisCGAnalyticStepWithin(&s, &x, lim.Step) {
-				calls, ok := brownDennisCGAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(BrownDennisCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !brownDennisCGAnalyticFiniteVec(&g) {
-					return best.ending(BrownDennisCGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = brownDennisCGAnalyticVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func brownDennisCGAnalyticMinimize(x0 [4]float64, lim BrownDennisCGAnalyticLimit
 			case found.rising:
 				end = BrownDennisCGAnalyticNoDecrease
 			case found.end == brownDennisCGAnalyticSearchTiny && canSettle:
-				calls, ok := brownDennisCGAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(BrownDennisCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !brownDennisCGAnalyticFiniteVec(&g) {
-					return best.ending(BrownDennisCGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = brownDennisCGAnalyticVerifyStall, true
 				continue
 			case found.end == brownDennisCGAnalyticSearchTiny:
 				end = BrownDennisCGAnalyticStalled
@@ -482,41 +470,30 @@ func brownDennisCGAnalyticScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
-// brownDennisCGAnalyticGradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func brownDennisCGAnalyticGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *brownDennisCGAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	brownDennisCGAnalyticVerifyNothing = iota
+	brownDennisCGAnalyticVerifyPass    // a difference gradient passed the test
+	brownDennisCGAnalyticVerifyStall   // no step makes progress
+)
 
-// brownDennisCGAnalyticGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func brownDennisCGAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
-	scale := brownDennisCGAnalyticLarger(brownDennisCGAnalyticAbs(fx), 1)
-	for i := range g {
-		w := brownDennisCGAnalyticLarger(brownDennisCGAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = brownDennisCGAnalyticLarger(measure, (brownDennisCGAnalyticAbs(g[i])+e[i])*w)
-		floor = brownDennisCGAnalyticLarger(floor, e[i]*w)
+// brownDennisCGAnalyticSettle prepares a verdict at x: with differences it confirms the
+// gradient (brownDennisCGAnalyticConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (brownDennisCGAnalyticRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func brownDennisCGAnalyticSettle(x *[4]float64, fx float64, g, e *[4]float64, diffs *brownDennisCGAnalyticDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if brownDennisCGAnalyticDerivativeCost > 0 {
+		spent, ok := brownDennisCGAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// brownDennisCGAnalyticAbs returns |v|.
-func brownDennisCGAnalyticAbs(v float64) float64 {
-	if v < 0 {
-		return -v
+	if stall {
+		brownDennisCGAnalyticRoundingFloor(x, g, e, diffs)
 	}
-	return v
+	return calls, true
 }
 
 // brownDennisCGAnalyticConfirmGradient recomputes a difference gradient at x before the run is
@@ -549,33 +526,20 @@ func brownDennisCGAnalyticConfirmGradient(x *[4]float64, fx float64, g, e *[4]fl
 	return calls + 2*brownDennisCGAnalyticDerivativeCost, true
 }
 
-// brownDennisCGAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func brownDennisCGAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
-	for i := range s {
-		if !(brownDennisCGAnalyticAbs(s[i]) <= tol*(brownDennisCGAnalyticAbs(x[i])+1)) {
-			return false
-		}
+// brownDennisCGAnalyticGradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func brownDennisCGAnalyticGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *brownDennisCGAnalyticDifferences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// brownDennisCGAnalyticSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (brownDennisCGAnalyticConfirmGradient), then it adds to each error
-// bound the rounding floor of x (brownDennisCGAnalyticRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func brownDennisCGAnalyticSettle(x *[4]float64, fx float64, g, e *[4]float64, diffs *brownDennisCGAnalyticDifferences, budget int) (int, bool) {
-	calls := 0
-	if brownDennisCGAnalyticDerivativeCost > 0 {
-		spent, ok := brownDennisCGAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// brownDennisCGAnalyticAbs returns |v|.
+func brownDennisCGAnalyticAbs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	brownDennisCGAnalyticRoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // brownDennisCGAnalyticRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -618,6 +582,39 @@ func brownDennisCGAnalyticProbeStep(xi, h float64) (float64, float64) {
 // brownDennisCGAnalyticSquareRoot returns √v.
 func brownDennisCGAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// brownDennisCGAnalyticGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func brownDennisCGAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
+	scale := brownDennisCGAnalyticLarger(brownDennisCGAnalyticAbs(fx), 1)
+	for i := range g {
+		w := brownDennisCGAnalyticLarger(brownDennisCGAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = brownDennisCGAnalyticLarger(measure, (brownDennisCGAnalyticAbs(g[i])+e[i])*w)
+		floor = brownDennisCGAnalyticLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// brownDennisCGAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func brownDennisCGAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
+	for i := range s {
+		if !(brownDennisCGAnalyticAbs(s[i]) <= tol*(brownDennisCGAnalyticAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // brownDennisCGAnalyticTinyStep returns the longest t for which the step t·d from x passes the

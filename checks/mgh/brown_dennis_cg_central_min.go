@@ -190,11 +190,25 @@ func brownDennisCGCentralMinimize(x0 [4]float64, lim BrownDennisCGCentralLimits)
 	t, slope := float64(brownDennisCGCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                      // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                            // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                               // whether g and e at x come from brownDennisCGCentralConfirmGradient
+	confirmed := false                                               // whether g and e at x come from brownDennisCGCentralConfirmGradient or settle
 	stalled := false                                                 // whether the run can make no more progress at x
 	retried := -1                                                    // the iteration whose stall was retried with recalibrated differences
+	verify := brownDennisCGCentralVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != brownDennisCGCentralVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see brownDennisCGCentralConfirmGradient and settle).
+			calls, ok := brownDennisCGCentralSettle(&x, fx, &g, &e, &diffs, verify == brownDennisCGCentralVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(BrownDennisCGCentralOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !brownDennisCGCentralFiniteVec(&g) {
+				return best.ending(BrownDennisCGCentralNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = brownDennisCGCentralVerifyNothing, true
+		case !confirmed:
 			brownDennisCGCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := brownDennisCGCentralGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func brownDennisCGCentralMinimize(x0 [4]float64, lim BrownDennisCGCentralLimits)
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := brownDennisCGCentralConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(BrownDennisCGCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !brownDennisCGCentralFiniteVec(&g) {
-				return best.ending(BrownDennisCGCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = brownDennisCGCentralVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func brownDennisCGCentralMinimize(x0 [4]float64, lim BrownDennisCGCentralLimits)
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if brownDennisCGCentralStepWithin(&s, &x, lim.Step) {
-				calls, ok := brownDennisCGCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(BrownDennisCGCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !brownDennisCGCentralFiniteVec(&g) {
-					return best.ending(BrownDennisCGCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = brownDennisCGCentralVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func brownDennisCGCentralMinimize(x0 [4]float64, lim BrownDennisCGCentralLimits)
 			case found.rising:
 				end = BrownDennisCGCentralNoDecrease
 			case found.end == brownDennisCGCentralSearchTiny && canSettle:
-				calls, ok := brownDennisCGCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(BrownDennisCGCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !brownDennisCGCentralFiniteVec(&g) {
-					return best.ending(BrownDennisCGCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = brownDennisCGCentralVerifyStall, true
 				continue
 			case found.end == brownDennisCGCentralSearchTiny:
 				end = BrownDennisCGCentralStalled
@@ -615,37 +603,30 @@ func brownDennisCGCentralScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
-// brownDennisCGCentralGradientError bounds each central difference's error by twice its
-// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
-// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
-// in forwardError).
-func brownDennisCGCentralGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *brownDennisCGCentralDifferences) {
-	noise := brownDennisCGCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h := diffs.ratio[i] * brownDennisCGCentralLarger(1, brownDennisCGCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	brownDennisCGCentralVerifyNothing = iota
+	brownDennisCGCentralVerifyPass    // a difference gradient passed the test
+	brownDennisCGCentralVerifyStall   // no step makes progress
+)
 
-// brownDennisCGCentralGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func brownDennisCGCentralGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
-	scale := brownDennisCGCentralLarger(brownDennisCGCentralAbs(fx), 1)
-	for i := range g {
-		w := brownDennisCGCentralLarger(brownDennisCGCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = brownDennisCGCentralLarger(measure, (brownDennisCGCentralAbs(g[i])+e[i])*w)
-		floor = brownDennisCGCentralLarger(floor, e[i]*w)
+// brownDennisCGCentralSettle prepares a verdict at x: with differences it confirms the
+// gradient (brownDennisCGCentralConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (brownDennisCGCentralRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func brownDennisCGCentralSettle(x *[4]float64, fx float64, g, e *[4]float64, diffs *brownDennisCGCentralDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if brownDennisCGCentralDerivativeCost > 0 {
+		spent, ok := brownDennisCGCentralConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
+	if stall {
+		brownDennisCGCentralRoundingFloor(x, g, e, diffs)
+	}
+	return calls, true
 }
 
 // brownDennisCGCentralConfirmGradient recomputes a difference gradient at x before the run is
@@ -678,33 +659,16 @@ func brownDennisCGCentralConfirmGradient(x *[4]float64, fx float64, g, e *[4]flo
 	return calls + 2*brownDennisCGCentralDerivativeCost, true
 }
 
-// brownDennisCGCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func brownDennisCGCentralStepWithin(s, x *[4]float64, tol float64) bool {
-	for i := range s {
-		if !(brownDennisCGCentralAbs(s[i]) <= tol*(brownDennisCGCentralAbs(x[i])+1)) {
-			return false
-		}
+// brownDennisCGCentralGradientError bounds each central difference's error by twice its
+// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
+// in forwardError).
+func brownDennisCGCentralGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *brownDennisCGCentralDifferences) {
+	noise := brownDennisCGCentralNoiseLevel(x, fx, g)
+	for i := range e {
+		h := diffs.ratio[i] * brownDennisCGCentralLarger(1, brownDennisCGCentralAbs(x[i]))
+		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
 	}
-	return true
-}
-
-// brownDennisCGCentralSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (brownDennisCGCentralConfirmGradient), then it adds to each error
-// bound the rounding floor of x (brownDennisCGCentralRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func brownDennisCGCentralSettle(x *[4]float64, fx float64, g, e *[4]float64, diffs *brownDennisCGCentralDifferences, budget int) (int, bool) {
-	calls := 0
-	if brownDennisCGCentralDerivativeCost > 0 {
-		spent, ok := brownDennisCGCentralConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
-	}
-	brownDennisCGCentralRoundingFloor(x, g, e, diffs)
-	return calls, true
 }
 
 // brownDennisCGCentralRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -725,6 +689,39 @@ func brownDennisCGCentralRoundingFloor(x, g, e *[4]float64, diffs *brownDennisCG
 // calibration, which brownDennisCGCentralConfirmGradient has just made at x.
 func brownDennisCGCentralDiagonalCurvature(x, g *[4]float64, diffs *brownDennisCGCentralDifferences, h *[4]float64) {
 	*h = diffs.second
+}
+
+// brownDennisCGCentralGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func brownDennisCGCentralGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
+	scale := brownDennisCGCentralLarger(brownDennisCGCentralAbs(fx), 1)
+	for i := range g {
+		w := brownDennisCGCentralLarger(brownDennisCGCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = brownDennisCGCentralLarger(measure, (brownDennisCGCentralAbs(g[i])+e[i])*w)
+		floor = brownDennisCGCentralLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// brownDennisCGCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func brownDennisCGCentralStepWithin(s, x *[4]float64, tol float64) bool {
+	for i := range s {
+		if !(brownDennisCGCentralAbs(s[i]) <= tol*(brownDennisCGCentralAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // brownDennisCGCentralTinyStep returns the longest t for which the step t·d from x passes the

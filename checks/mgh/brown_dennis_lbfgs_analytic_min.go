@@ -191,11 +191,25 @@ func brownDennisLBFGSAnalyticMinimize(x0 [4]float64, lim BrownDennisLBFGSAnalyti
 	t, slope := float64(brownDennisLBFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                          // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                                // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                   // whether g and e at x come from brownDennisLBFGSAnalyticConfirmGradient
+	confirmed := false                                                   // whether g and e at x come from brownDennisLBFGSAnalyticConfirmGradient or settle
 	stalled := false                                                     // whether the run can make no more progress at x
 	retried := -1                                                        // the iteration whose stall was retried with recalibrated differences
+	verify := brownDennisLBFGSAnalyticVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != brownDennisLBFGSAnalyticVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see brownDennisLBFGSAnalyticConfirmGradient and settle).
+			calls, ok := brownDennisLBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, verify == brownDennisLBFGSAnalyticVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(BrownDennisLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !brownDennisLBFGSAnalyticFiniteVec(&g) {
+				return best.ending(BrownDennisLBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = brownDennisLBFGSAnalyticVerifyNothing, true
+		case !confirmed:
 			brownDennisLBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := brownDennisLBFGSAnalyticGradientMeasure(&g, &e, &x, fx)
@@ -213,17 +227,7 @@ func brownDennisLBFGSAnalyticMinimize(x0 [4]float64, lim BrownDennisLBFGSAnalyti
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := brownDennisLBFGSAnalyticConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(BrownDennisLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !brownDennisLBFGSAnalyticFiniteVec(&g) {
-				return best.ending(BrownDennisLBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = brownDennisLBFGSAnalyticVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -241,15 +245,7 @@ func brownDennisLBFGSAnalyticMinimize(x0 [4]float64, lim BrownDennisLBFGSAnalyti
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if brownDennisLBFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				calls, ok := brownDennisLBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(BrownDennisLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !brownDennisLBFGSAnalyticFiniteVec(&g) {
-					return best.ending(BrownDennisLBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = brownDennisLBFGSAnalyticVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -290,15 +286,7 @@ func brownDennisLBFGSAnalyticMinimize(x0 [4]float64, lim BrownDennisLBFGSAnalyti
 			case found.rising:
 				end = BrownDennisLBFGSAnalyticNoDecrease
 			case found.end == brownDennisLBFGSAnalyticSearchTiny && canSettle:
-				calls, ok := brownDennisLBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(BrownDennisLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !brownDennisLBFGSAnalyticFiniteVec(&g) {
-					return best.ending(BrownDennisLBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = brownDennisLBFGSAnalyticVerifyStall, true
 				continue
 			case found.end == brownDennisLBFGSAnalyticSearchTiny:
 				end = BrownDennisLBFGSAnalyticStalled
@@ -516,51 +504,30 @@ func brownDennisLBFGSAnalyticCurvatureSafe(s, y *[4]float64) bool {
 	return sy > 0 && (sy/brownDennisLBFGSAnalyticDot(s, s))*(sy/brownDennisLBFGSAnalyticDot(y, y)) > brownDennisLBFGSAnalyticUnitRoundoff
 }
 
-// brownDennisLBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func brownDennisLBFGSAnalyticGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *brownDennisLBFGSAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	brownDennisLBFGSAnalyticVerifyNothing = iota
+	brownDennisLBFGSAnalyticVerifyPass    // a difference gradient passed the test
+	brownDennisLBFGSAnalyticVerifyStall   // no step makes progress
+)
 
-// brownDennisLBFGSAnalyticGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func brownDennisLBFGSAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
-	scale := brownDennisLBFGSAnalyticLarger(brownDennisLBFGSAnalyticAbs(fx), 1)
-	for i := range g {
-		w := brownDennisLBFGSAnalyticLarger(brownDennisLBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = brownDennisLBFGSAnalyticLarger(measure, (brownDennisLBFGSAnalyticAbs(g[i])+e[i])*w)
-		floor = brownDennisLBFGSAnalyticLarger(floor, e[i]*w)
+// brownDennisLBFGSAnalyticSettle prepares a verdict at x: with differences it confirms the
+// gradient (brownDennisLBFGSAnalyticConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (brownDennisLBFGSAnalyticRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func brownDennisLBFGSAnalyticSettle(x *[4]float64, fx float64, g, e *[4]float64, diffs *brownDennisLBFGSAnalyticDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if brownDennisLBFGSAnalyticDerivativeCost > 0 {
+		spent, ok := brownDennisLBFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// brownDennisLBFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func brownDennisLBFGSAnalyticLarger(a, b float64) float64 {
-	if a > b || a != a {
-		return a
+	if stall {
+		brownDennisLBFGSAnalyticRoundingFloor(x, g, e, diffs)
 	}
-	return b
-}
-
-// brownDennisLBFGSAnalyticAbs returns |v|.
-func brownDennisLBFGSAnalyticAbs(v float64) float64 {
-	if v < 0 {
-		return -v
-	}
-	return v
+	return calls, true
 }
 
 // brownDennisLBFGSAnalyticConfirmGradient recomputes a difference gradient at x before the run is
@@ -593,33 +560,20 @@ func brownDennisLBFGSAnalyticConfirmGradient(x *[4]float64, fx float64, g, e *[4
 	return calls + 2*brownDennisLBFGSAnalyticDerivativeCost, true
 }
 
-// brownDennisLBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func brownDennisLBFGSAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
-	for i := range s {
-		if !(brownDennisLBFGSAnalyticAbs(s[i]) <= tol*(brownDennisLBFGSAnalyticAbs(x[i])+1)) {
-			return false
-		}
+// brownDennisLBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func brownDennisLBFGSAnalyticGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *brownDennisLBFGSAnalyticDifferences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// brownDennisLBFGSAnalyticSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (brownDennisLBFGSAnalyticConfirmGradient), then it adds to each error
-// bound the rounding floor of x (brownDennisLBFGSAnalyticRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func brownDennisLBFGSAnalyticSettle(x *[4]float64, fx float64, g, e *[4]float64, diffs *brownDennisLBFGSAnalyticDifferences, budget int) (int, bool) {
-	calls := 0
-	if brownDennisLBFGSAnalyticDerivativeCost > 0 {
-		spent, ok := brownDennisLBFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// brownDennisLBFGSAnalyticAbs returns |v|.
+func brownDennisLBFGSAnalyticAbs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	brownDennisLBFGSAnalyticRoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // brownDennisLBFGSAnalyticRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -662,6 +616,49 @@ func brownDennisLBFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
 // brownDennisLBFGSAnalyticSquareRoot returns √v.
 func brownDennisLBFGSAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// brownDennisLBFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func brownDennisLBFGSAnalyticLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// brownDennisLBFGSAnalyticGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func brownDennisLBFGSAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
+	scale := brownDennisLBFGSAnalyticLarger(brownDennisLBFGSAnalyticAbs(fx), 1)
+	for i := range g {
+		w := brownDennisLBFGSAnalyticLarger(brownDennisLBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = brownDennisLBFGSAnalyticLarger(measure, (brownDennisLBFGSAnalyticAbs(g[i])+e[i])*w)
+		floor = brownDennisLBFGSAnalyticLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// brownDennisLBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func brownDennisLBFGSAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
+	for i := range s {
+		if !(brownDennisLBFGSAnalyticAbs(s[i]) <= tol*(brownDennisLBFGSAnalyticAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // brownDennisLBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the

@@ -191,11 +191,25 @@ func brownDennisLBFGSCentralMinimize(x0 [4]float64, lim BrownDennisLBFGSCentralL
 	t, slope := float64(brownDennisLBFGSCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                         // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                               // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                  // whether g and e at x come from brownDennisLBFGSCentralConfirmGradient
+	confirmed := false                                                  // whether g and e at x come from brownDennisLBFGSCentralConfirmGradient or settle
 	stalled := false                                                    // whether the run can make no more progress at x
 	retried := -1                                                       // the iteration whose stall was retried with recalibrated differences
+	verify := brownDennisLBFGSCentralVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != brownDennisLBFGSCentralVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see brownDennisLBFGSCentralConfirmGradient and settle).
+			calls, ok := brownDennisLBFGSCentralSettle(&x, fx, &g, &e, &diffs, verify == brownDennisLBFGSCentralVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(BrownDennisLBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !brownDennisLBFGSCentralFiniteVec(&g) {
+				return best.ending(BrownDennisLBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = brownDennisLBFGSCentralVerifyNothing, true
+		case !confirmed:
 			brownDennisLBFGSCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := brownDennisLBFGSCentralGradientMeasure(&g, &e, &x, fx)
@@ -213,17 +227,7 @@ func brownDennisLBFGSCentralMinimize(x0 [4]float64, lim BrownDennisLBFGSCentralL
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := brownDennisLBFGSCentralConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(BrownDennisLBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !brownDennisLBFGSCentralFiniteVec(&g) {
-				return best.ending(BrownDennisLBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = brownDennisLBFGSCentralVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -241,15 +245,7 @@ func brownDennisLBFGSCentralMinimize(x0 [4]float64, lim BrownDennisLBFGSCentralL
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if brownDennisLBFGSCentralStepWithin(&s, &x, lim.Step) {
-				calls, ok := brownDennisLBFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(BrownDennisLBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !brownDennisLBFGSCentralFiniteVec(&g) {
-					return best.ending(BrownDennisLBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = brownDennisLBFGSCentralVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -290,15 +286,7 @@ func brownDennisLBFGSCentralMinimize(x0 [4]float64, lim BrownDennisLBFGSCentralL
 			case found.rising:
 				end = BrownDennisLBFGSCentralNoDecrease
 			case found.end == brownDennisLBFGSCentralSearchTiny && canSettle:
-				calls, ok := brownDennisLBFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(BrownDennisLBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !brownDennisLBFGSCentralFiniteVec(&g) {
-					return best.ending(BrownDennisLBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = brownDennisLBFGSCentralVerifyStall, true
 				continue
 			case found.end == brownDennisLBFGSCentralSearchTiny:
 				end = BrownDennisLBFGSCentralStalled
@@ -659,37 +647,30 @@ func brownDennisLBFGSCentralCurvatureSafe(s, y *[4]float64) bool {
 	return sy > 0 && (sy/brownDennisLBFGSCentralDot(s, s))*(sy/brownDennisLBFGSCentralDot(y, y)) > brownDennisLBFGSCentralUnitRoundoff
 }
 
-// brownDennisLBFGSCentralGradientError bounds each central difference's error by twice its
-// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
-// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
-// in forwardError).
-func brownDennisLBFGSCentralGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *brownDennisLBFGSCentralDifferences) {
-	noise := brownDennisLBFGSCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h := diffs.ratio[i] * brownDennisLBFGSCentralLarger(1, brownDennisLBFGSCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	brownDennisLBFGSCentralVerifyNothing = iota
+	brownDennisLBFGSCentralVerifyPass    // a difference gradient passed the test
+	brownDennisLBFGSCentralVerifyStall   // no step makes progress
+)
 
-// brownDennisLBFGSCentralGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func brownDennisLBFGSCentralGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
-	scale := brownDennisLBFGSCentralLarger(brownDennisLBFGSCentralAbs(fx), 1)
-	for i := range g {
-		w := brownDennisLBFGSCentralLarger(brownDennisLBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = brownDennisLBFGSCentralLarger(measure, (brownDennisLBFGSCentralAbs(g[i])+e[i])*w)
-		floor = brownDennisLBFGSCentralLarger(floor, e[i]*w)
+// brownDennisLBFGSCentralSettle prepares a verdict at x: with differences it confirms the
+// gradient (brownDennisLBFGSCentralConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (brownDennisLBFGSCentralRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func brownDennisLBFGSCentralSettle(x *[4]float64, fx float64, g, e *[4]float64, diffs *brownDennisLBFGSCentralDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if brownDennisLBFGSCentralDerivativeCost > 0 {
+		spent, ok := brownDennisLBFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
+	if stall {
+		brownDennisLBFGSCentralRoundingFloor(x, g, e, diffs)
+	}
+	return calls, true
 }
 
 // brownDennisLBFGSCentralConfirmGradient recomputes a difference gradient at x before the run is
@@ -722,33 +703,16 @@ func brownDennisLBFGSCentralConfirmGradient(x *[4]float64, fx float64, g, e *[4]
 	return calls + 2*brownDennisLBFGSCentralDerivativeCost, true
 }
 
-// brownDennisLBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func brownDennisLBFGSCentralStepWithin(s, x *[4]float64, tol float64) bool {
-	for i := range s {
-		if !(brownDennisLBFGSCentralAbs(s[i]) <= tol*(brownDennisLBFGSCentralAbs(x[i])+1)) {
-			return false
-		}
+// brownDennisLBFGSCentralGradientError bounds each central difference's error by twice its
+// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
+// in forwardError).
+func brownDennisLBFGSCentralGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *brownDennisLBFGSCentralDifferences) {
+	noise := brownDennisLBFGSCentralNoiseLevel(x, fx, g)
+	for i := range e {
+		h := diffs.ratio[i] * brownDennisLBFGSCentralLarger(1, brownDennisLBFGSCentralAbs(x[i]))
+		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
 	}
-	return true
-}
-
-// brownDennisLBFGSCentralSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (brownDennisLBFGSCentralConfirmGradient), then it adds to each error
-// bound the rounding floor of x (brownDennisLBFGSCentralRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func brownDennisLBFGSCentralSettle(x *[4]float64, fx float64, g, e *[4]float64, diffs *brownDennisLBFGSCentralDifferences, budget int) (int, bool) {
-	calls := 0
-	if brownDennisLBFGSCentralDerivativeCost > 0 {
-		spent, ok := brownDennisLBFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
-	}
-	brownDennisLBFGSCentralRoundingFloor(x, g, e, diffs)
-	return calls, true
 }
 
 // brownDennisLBFGSCentralRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -769,6 +733,39 @@ func brownDennisLBFGSCentralRoundingFloor(x, g, e *[4]float64, diffs *brownDenni
 // calibration, which brownDennisLBFGSCentralConfirmGradient has just made at x.
 func brownDennisLBFGSCentralDiagonalCurvature(x, g *[4]float64, diffs *brownDennisLBFGSCentralDifferences, h *[4]float64) {
 	*h = diffs.second
+}
+
+// brownDennisLBFGSCentralGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func brownDennisLBFGSCentralGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
+	scale := brownDennisLBFGSCentralLarger(brownDennisLBFGSCentralAbs(fx), 1)
+	for i := range g {
+		w := brownDennisLBFGSCentralLarger(brownDennisLBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = brownDennisLBFGSCentralLarger(measure, (brownDennisLBFGSCentralAbs(g[i])+e[i])*w)
+		floor = brownDennisLBFGSCentralLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// brownDennisLBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func brownDennisLBFGSCentralStepWithin(s, x *[4]float64, tol float64) bool {
+	for i := range s {
+		if !(brownDennisLBFGSCentralAbs(s[i]) <= tol*(brownDennisLBFGSCentralAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // brownDennisLBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the

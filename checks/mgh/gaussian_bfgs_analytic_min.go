@@ -190,11 +190,25 @@ func gaussianBFGSAnalyticMinimize(x0 [3]float64, lim GaussianBFGSAnalyticLimits)
 	t, slope := float64(gaussianBFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                      // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                            // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                               // whether g and e at x come from gaussianBFGSAnalyticConfirmGradient
+	confirmed := false                                               // whether g and e at x come from gaussianBFGSAnalyticConfirmGradient or settle
 	stalled := false                                                 // whether the run can make no more progress at x
 	retried := -1                                                    // the iteration whose stall was retried with recalibrated differences
+	verify := gaussianBFGSAnalyticVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != gaussianBFGSAnalyticVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see gaussianBFGSAnalyticConfirmGradient and settle).
+			calls, ok := gaussianBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, verify == gaussianBFGSAnalyticVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(GaussianBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !gaussianBFGSAnalyticFiniteVec(&g) {
+				return best.ending(GaussianBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = gaussianBFGSAnalyticVerifyNothing, true
+		case !confirmed:
 			gaussianBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := gaussianBFGSAnalyticGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func gaussianBFGSAnalyticMinimize(x0 [3]float64, lim GaussianBFGSAnalyticLimits)
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := gaussianBFGSAnalyticConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(GaussianBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !gaussianBFGSAnalyticFiniteVec(&g) {
-				return best.ending(GaussianBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = gaussianBFGSAnalyticVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func gaussianBFGSAnalyticMinimize(x0 [3]float64, lim GaussianBFGSAnalyticLimits)
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if gaussianBFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				calls, ok := gaussianBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(GaussianBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !gaussianBFGSAnalyticFiniteVec(&g) {
-					return best.ending(GaussianBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = gaussianBFGSAnalyticVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func gaussianBFGSAnalyticMinimize(x0 [3]float64, lim GaussianBFGSAnalyticLimits)
 			case found.rising:
 				end = GaussianBFGSAnalyticNoDecrease
 			case found.end == gaussianBFGSAnalyticSearchTiny && canSettle:
-				calls, ok := gaussianBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(GaussianBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !gaussianBFGSAnalyticFiniteVec(&g) {
-					return best.ending(GaussianBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = gaussianBFGSAnalyticVerifyStall, true
 				continue
 			case found.end == gaussianBFGSAnalyticSearchTiny:
 				end = GaussianBFGSAnalyticStalled
@@ -490,51 +478,30 @@ func gaussianBFGSAnalyticCurvatureSafe(s, y *[3]float64) bool {
 	return sy > 0 && (sy/gaussianBFGSAnalyticDot(s, s))*(sy/gaussianBFGSAnalyticDot(y, y)) > gaussianBFGSAnalyticUnitRoundoff
 }
 
-// gaussianBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func gaussianBFGSAnalyticGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *gaussianBFGSAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	gaussianBFGSAnalyticVerifyNothing = iota
+	gaussianBFGSAnalyticVerifyPass    // a difference gradient passed the test
+	gaussianBFGSAnalyticVerifyStall   // no step makes progress
+)
 
-// gaussianBFGSAnalyticGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func gaussianBFGSAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
-	scale := gaussianBFGSAnalyticLarger(gaussianBFGSAnalyticAbs(fx), 1)
-	for i := range g {
-		w := gaussianBFGSAnalyticLarger(gaussianBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = gaussianBFGSAnalyticLarger(measure, (gaussianBFGSAnalyticAbs(g[i])+e[i])*w)
-		floor = gaussianBFGSAnalyticLarger(floor, e[i]*w)
+// gaussianBFGSAnalyticSettle prepares a verdict at x: with differences it confirms the
+// gradient (gaussianBFGSAnalyticConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (gaussianBFGSAnalyticRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func gaussianBFGSAnalyticSettle(x *[3]float64, fx float64, g, e *[3]float64, diffs *gaussianBFGSAnalyticDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if gaussianBFGSAnalyticDerivativeCost > 0 {
+		spent, ok := gaussianBFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// gaussianBFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func gaussianBFGSAnalyticLarger(a, b float64) float64 {
-	if a > b || a != a {
-		return a
+	if stall {
+		gaussianBFGSAnalyticRoundingFloor(x, g, e, diffs)
 	}
-	return b
-}
-
-// gaussianBFGSAnalyticAbs returns |v|.
-func gaussianBFGSAnalyticAbs(v float64) float64 {
-	if v < 0 {
-		return -v
-	}
-	return v
+	return calls, true
 }
 
 // gaussianBFGSAnalyticConfirmGradient recomputes a difference gradient at x before the run is
@@ -567,33 +534,20 @@ func gaussianBFGSAnalyticConfirmGradient(x *[3]float64, fx float64, g, e *[3]flo
 	return calls + 2*gaussianBFGSAnalyticDerivativeCost, true
 }
 
-// gaussianBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func gaussianBFGSAnalyticStepWithin(s, x *[3]float64, tol float64) bool {
-	for i := range s {
-		if !(gaussianBFGSAnalyticAbs(s[i]) <= tol*(gaussianBFGSAnalyticAbs(x[i])+1)) {
-			return false
-		}
+// gaussianBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func gaussianBFGSAnalyticGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *gaussianBFGSAnalyticDifferences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// gaussianBFGSAnalyticSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (gaussianBFGSAnalyticConfirmGradient), then it adds to each error
-// bound the rounding floor of x (gaussianBFGSAnalyticRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func gaussianBFGSAnalyticSettle(x *[3]float64, fx float64, g, e *[3]float64, diffs *gaussianBFGSAnalyticDifferences, budget int) (int, bool) {
-	calls := 0
-	if gaussianBFGSAnalyticDerivativeCost > 0 {
-		spent, ok := gaussianBFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// gaussianBFGSAnalyticAbs returns |v|.
+func gaussianBFGSAnalyticAbs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	gaussianBFGSAnalyticRoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // gaussianBFGSAnalyticRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -636,6 +590,49 @@ func gaussianBFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
 // gaussianBFGSAnalyticSquareRoot returns √v.
 func gaussianBFGSAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// gaussianBFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func gaussianBFGSAnalyticLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// gaussianBFGSAnalyticGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func gaussianBFGSAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
+	scale := gaussianBFGSAnalyticLarger(gaussianBFGSAnalyticAbs(fx), 1)
+	for i := range g {
+		w := gaussianBFGSAnalyticLarger(gaussianBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = gaussianBFGSAnalyticLarger(measure, (gaussianBFGSAnalyticAbs(g[i])+e[i])*w)
+		floor = gaussianBFGSAnalyticLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// gaussianBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func gaussianBFGSAnalyticStepWithin(s, x *[3]float64, tol float64) bool {
+	for i := range s {
+		if !(gaussianBFGSAnalyticAbs(s[i]) <= tol*(gaussianBFGSAnalyticAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // gaussianBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the

@@ -190,11 +190,25 @@ func gaussianBFGSCentralMinimize(x0 [3]float64, lim GaussianBFGSCentralLimits) g
 	t, slope := float64(gaussianBFGSCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                     // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                           // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                              // whether g and e at x come from gaussianBFGSCentralConfirmGradient
+	confirmed := false                                              // whether g and e at x come from gaussianBFGSCentralConfirmGradient or settle
 	stalled := false                                                // whether the run can make no more progress at x
 	retried := -1                                                   // the iteration whose stall was retried with recalibrated differences
+	verify := gaussianBFGSCentralVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != gaussianBFGSCentralVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see gaussianBFGSCentralConfirmGradient and settle).
+			calls, ok := gaussianBFGSCentralSettle(&x, fx, &g, &e, &diffs, verify == gaussianBFGSCentralVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(GaussianBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !gaussianBFGSCentralFiniteVec(&g) {
+				return best.ending(GaussianBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = gaussianBFGSCentralVerifyNothing, true
+		case !confirmed:
 			gaussianBFGSCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := gaussianBFGSCentralGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func gaussianBFGSCentralMinimize(x0 [3]float64, lim GaussianBFGSCentralLimits) g
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := gaussianBFGSCentralConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(GaussianBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !gaussianBFGSCentralFiniteVec(&g) {
-				return best.ending(GaussianBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = gaussianBFGSCentralVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func gaussianBFGSCentralMinimize(x0 [3]float64, lim GaussianBFGSCentralLimits) g
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if gaussianBFGSCentralStepWithin(&s, &x, lim.Step) {
-				calls, ok := gaussianBFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(GaussianBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !gaussianBFGSCentralFiniteVec(&g) {
-					return best.ending(GaussianBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = gaussianBFGSCentralVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func gaussianBFGSCentralMinimize(x0 [3]float64, lim GaussianBFGSCentralLimits) g
 			case found.rising:
 				end = GaussianBFGSCentralNoDecrease
 			case found.end == gaussianBFGSCentralSearchTiny && canSettle:
-				calls, ok := gaussianBFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(GaussianBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !gaussianBFGSCentralFiniteVec(&g) {
-					return best.ending(GaussianBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = gaussianBFGSCentralVerifyStall, true
 				continue
 			case found.end == gaussianBFGSCentralSearchTiny:
 				end = GaussianBFGSCentralStalled
@@ -633,37 +621,30 @@ func gaussianBFGSCentralCurvatureSafe(s, y *[3]float64) bool {
 	return sy > 0 && (sy/gaussianBFGSCentralDot(s, s))*(sy/gaussianBFGSCentralDot(y, y)) > gaussianBFGSCentralUnitRoundoff
 }
 
-// gaussianBFGSCentralGradientError bounds each central difference's error by twice its
-// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
-// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
-// in forwardError).
-func gaussianBFGSCentralGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *gaussianBFGSCentralDifferences) {
-	noise := gaussianBFGSCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h := diffs.ratio[i] * gaussianBFGSCentralLarger(1, gaussianBFGSCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	gaussianBFGSCentralVerifyNothing = iota
+	gaussianBFGSCentralVerifyPass    // a difference gradient passed the test
+	gaussianBFGSCentralVerifyStall   // no step makes progress
+)
 
-// gaussianBFGSCentralGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func gaussianBFGSCentralGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
-	scale := gaussianBFGSCentralLarger(gaussianBFGSCentralAbs(fx), 1)
-	for i := range g {
-		w := gaussianBFGSCentralLarger(gaussianBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = gaussianBFGSCentralLarger(measure, (gaussianBFGSCentralAbs(g[i])+e[i])*w)
-		floor = gaussianBFGSCentralLarger(floor, e[i]*w)
+// gaussianBFGSCentralSettle prepares a verdict at x: with differences it confirms the
+// gradient (gaussianBFGSCentralConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (gaussianBFGSCentralRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func gaussianBFGSCentralSettle(x *[3]float64, fx float64, g, e *[3]float64, diffs *gaussianBFGSCentralDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if gaussianBFGSCentralDerivativeCost > 0 {
+		spent, ok := gaussianBFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
+	if stall {
+		gaussianBFGSCentralRoundingFloor(x, g, e, diffs)
+	}
+	return calls, true
 }
 
 // gaussianBFGSCentralConfirmGradient recomputes a difference gradient at x before the run is
@@ -696,33 +677,16 @@ func gaussianBFGSCentralConfirmGradient(x *[3]float64, fx float64, g, e *[3]floa
 	return calls + 2*gaussianBFGSCentralDerivativeCost, true
 }
 
-// gaussianBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func gaussianBFGSCentralStepWithin(s, x *[3]float64, tol float64) bool {
-	for i := range s {
-		if !(gaussianBFGSCentralAbs(s[i]) <= tol*(gaussianBFGSCentralAbs(x[i])+1)) {
-			return false
-		}
+// gaussianBFGSCentralGradientError bounds each central difference's error by twice its
+// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
+// in forwardError).
+func gaussianBFGSCentralGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *gaussianBFGSCentralDifferences) {
+	noise := gaussianBFGSCentralNoiseLevel(x, fx, g)
+	for i := range e {
+		h := diffs.ratio[i] * gaussianBFGSCentralLarger(1, gaussianBFGSCentralAbs(x[i]))
+		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
 	}
-	return true
-}
-
-// gaussianBFGSCentralSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (gaussianBFGSCentralConfirmGradient), then it adds to each error
-// bound the rounding floor of x (gaussianBFGSCentralRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func gaussianBFGSCentralSettle(x *[3]float64, fx float64, g, e *[3]float64, diffs *gaussianBFGSCentralDifferences, budget int) (int, bool) {
-	calls := 0
-	if gaussianBFGSCentralDerivativeCost > 0 {
-		spent, ok := gaussianBFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
-	}
-	gaussianBFGSCentralRoundingFloor(x, g, e, diffs)
-	return calls, true
 }
 
 // gaussianBFGSCentralRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -743,6 +707,39 @@ func gaussianBFGSCentralRoundingFloor(x, g, e *[3]float64, diffs *gaussianBFGSCe
 // calibration, which gaussianBFGSCentralConfirmGradient has just made at x.
 func gaussianBFGSCentralDiagonalCurvature(x, g *[3]float64, diffs *gaussianBFGSCentralDifferences, h *[3]float64) {
 	*h = diffs.second
+}
+
+// gaussianBFGSCentralGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func gaussianBFGSCentralGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
+	scale := gaussianBFGSCentralLarger(gaussianBFGSCentralAbs(fx), 1)
+	for i := range g {
+		w := gaussianBFGSCentralLarger(gaussianBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = gaussianBFGSCentralLarger(measure, (gaussianBFGSCentralAbs(g[i])+e[i])*w)
+		floor = gaussianBFGSCentralLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// gaussianBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func gaussianBFGSCentralStepWithin(s, x *[3]float64, tol float64) bool {
+	for i := range s {
+		if !(gaussianBFGSCentralAbs(s[i]) <= tol*(gaussianBFGSCentralAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // gaussianBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the

@@ -190,11 +190,25 @@ func gaussianCGAnalyticMinimize(x0 [3]float64, lim GaussianCGAnalyticLimits) gau
 	t, slope := float64(gaussianCGAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                    // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                          // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                             // whether g and e at x come from gaussianCGAnalyticConfirmGradient
+	confirmed := false                                             // whether g and e at x come from gaussianCGAnalyticConfirmGradient or settle
 	stalled := false                                               // whether the run can make no more progress at x
 	retried := -1                                                  // the iteration whose stall was retried with recalibrated differences
+	verify := gaussianCGAnalyticVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != gaussianCGAnalyticVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see gaussianCGAnalyticConfirmGradient and settle).
+			calls, ok := gaussianCGAnalyticSettle(&x, fx, &g, &e, &diffs, verify == gaussianCGAnalyticVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(GaussianCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !gaussianCGAnalyticFiniteVec(&g) {
+				return best.ending(GaussianCGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = gaussianCGAnalyticVerifyNothing, true
+		case !confirmed:
 			gaussianCGAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := gaussianCGAnalyticGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func gaussianCGAnalyticMinimize(x0 [3]float64, lim GaussianCGAnalyticLimits) gau
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := gaussianCGAnalyticConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(GaussianCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !gaussianCGAnalyticFiniteVec(&g) {
-				return best.ending(GaussianCGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = gaussianCGAnalyticVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func gaussianCGAnalyticMinimize(x0 [3]float64, lim GaussianCGAnalyticLimits) gau
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if gaussianCGAnalyticStepWithin(&s, &x, lim.Step) {
-				calls, ok := gaussianCGAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(GaussianCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !gaussianCGAnalyticFiniteVec(&g) {
-					return best.ending(GaussianCGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = gaussianCGAnalyticVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func gaussianCGAnalyticMinimize(x0 [3]float64, lim GaussianCGAnalyticLimits) gau
 			case found.rising:
 				end = GaussianCGAnalyticNoDecrease
 			case found.end == gaussianCGAnalyticSearchTiny && canSettle:
-				calls, ok := gaussianCGAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(GaussianCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !gaussianCGAnalyticFiniteVec(&g) {
-					return best.ending(GaussianCGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = gaussianCGAnalyticVerifyStall, true
 				continue
 			case found.end == gaussianCGAnalyticSearchTiny:
 				end = GaussianCGAnalyticStalled
@@ -482,41 +470,30 @@ func gaussianCGAnalyticScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
-// gaussianCGAnalyticGradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func gaussianCGAnalyticGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *gaussianCGAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	gaussianCGAnalyticVerifyNothing = iota
+	gaussianCGAnalyticVerifyPass    // a difference gradient passed the test
+	gaussianCGAnalyticVerifyStall   // no step makes progress
+)
 
-// gaussianCGAnalyticGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func gaussianCGAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
-	scale := gaussianCGAnalyticLarger(gaussianCGAnalyticAbs(fx), 1)
-	for i := range g {
-		w := gaussianCGAnalyticLarger(gaussianCGAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = gaussianCGAnalyticLarger(measure, (gaussianCGAnalyticAbs(g[i])+e[i])*w)
-		floor = gaussianCGAnalyticLarger(floor, e[i]*w)
+// gaussianCGAnalyticSettle prepares a verdict at x: with differences it confirms the
+// gradient (gaussianCGAnalyticConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (gaussianCGAnalyticRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func gaussianCGAnalyticSettle(x *[3]float64, fx float64, g, e *[3]float64, diffs *gaussianCGAnalyticDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if gaussianCGAnalyticDerivativeCost > 0 {
+		spent, ok := gaussianCGAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// gaussianCGAnalyticAbs returns |v|.
-func gaussianCGAnalyticAbs(v float64) float64 {
-	if v < 0 {
-		return -v
+	if stall {
+		gaussianCGAnalyticRoundingFloor(x, g, e, diffs)
 	}
-	return v
+	return calls, true
 }
 
 // gaussianCGAnalyticConfirmGradient recomputes a difference gradient at x before the run is
@@ -549,33 +526,20 @@ func gaussianCGAnalyticConfirmGradient(x *[3]float64, fx float64, g, e *[3]float
 	return calls + 2*gaussianCGAnalyticDerivativeCost, true
 }
 
-// gaussianCGAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func gaussianCGAnalyticStepWithin(s, x *[3]float64, tol float64) bool {
-	for i := range s {
-		if !(gaussianCGAnalyticAbs(s[i]) <= tol*(gaussianCGAnalyticAbs(x[i])+1)) {
-			return false
-		}
+// gaussianCGAnalyticGradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func gaussianCGAnalyticGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *gaussianCGAnalyticDifferences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// gaussianCGAnalyticSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (gaussianCGAnalyticConfirmGradient), then it adds to each error
-// bound the rounding floor of x (gaussianCGAnalyticRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func gaussianCGAnalyticSettle(x *[3]float64, fx float64, g, e *[3]float64, diffs *gaussianCGAnalyticDifferences, budget int) (int, bool) {
-	calls := 0
-	if gaussianCGAnalyticDerivativeCost > 0 {
-		spent, ok := gaussianCGAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// gaussianCGAnalyticAbs returns |v|.
+func gaussianCGAnalyticAbs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	gaussianCGAnalyticRoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // gaussianCGAnalyticRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -618,6 +582,39 @@ func gaussianCGAnalyticProbeStep(xi, h float64) (float64, float64) {
 // gaussianCGAnalyticSquareRoot returns √v.
 func gaussianCGAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// gaussianCGAnalyticGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func gaussianCGAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
+	scale := gaussianCGAnalyticLarger(gaussianCGAnalyticAbs(fx), 1)
+	for i := range g {
+		w := gaussianCGAnalyticLarger(gaussianCGAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = gaussianCGAnalyticLarger(measure, (gaussianCGAnalyticAbs(g[i])+e[i])*w)
+		floor = gaussianCGAnalyticLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// gaussianCGAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func gaussianCGAnalyticStepWithin(s, x *[3]float64, tol float64) bool {
+	for i := range s {
+		if !(gaussianCGAnalyticAbs(s[i]) <= tol*(gaussianCGAnalyticAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // gaussianCGAnalyticTinyStep returns the longest t for which the step t·d from x passes the

@@ -190,11 +190,25 @@ func gaussianCGCentralMinimize(x0 [3]float64, lim GaussianCGCentralLimits) gauss
 	t, slope := float64(gaussianCGCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                   // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                         // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                            // whether g and e at x come from gaussianCGCentralConfirmGradient
+	confirmed := false                                            // whether g and e at x come from gaussianCGCentralConfirmGradient or settle
 	stalled := false                                              // whether the run can make no more progress at x
 	retried := -1                                                 // the iteration whose stall was retried with recalibrated differences
+	verify := gaussianCGCentralVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != gaussianCGCentralVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see gaussianCGCentralConfirmGradient and settle).
+			calls, ok := gaussianCGCentralSettle(&x, fx, &g, &e, &diffs, verify == gaussianCGCentralVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(GaussianCGCentralOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !gaussianCGCentralFiniteVec(&g) {
+				return best.ending(GaussianCGCentralNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = gaussianCGCentralVerifyNothing, true
+		case !confirmed:
 			gaussianCGCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := gaussianCGCentralGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func gaussianCGCentralMinimize(x0 [3]float64, lim GaussianCGCentralLimits) gauss
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := gaussianCGCentralConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(GaussianCGCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !gaussianCGCentralFiniteVec(&g) {
-				return best.ending(GaussianCGCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = gaussianCGCentralVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func gaussianCGCentralMinimize(x0 [3]float64, lim GaussianCGCentralLimits) gauss
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if gaussianCGCentralStepWithin(&s, &x, lim.Step) {
-				calls, ok := gaussianCGCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(GaussianCGCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !gaussianCGCentralFiniteVec(&g) {
-					return best.ending(GaussianCGCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = gaussianCGCentralVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func gaussianCGCentralMinimize(x0 [3]float64, lim GaussianCGCentralLimits) gauss
 			case found.rising:
 				end = GaussianCGCentralNoDecrease
 			case found.end == gaussianCGCentralSearchTiny && canSettle:
-				calls, ok := gaussianCGCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(GaussianCGCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !gaussianCGCentralFiniteVec(&g) {
-					return best.ending(GaussianCGCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = gaussianCGCentralVerifyStall, true
 				continue
 			case found.end == gaussianCGCentralSearchTiny:
 				end = GaussianCGCentralStalled
@@ -615,37 +603,30 @@ func gaussianCGCentralScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
-// gaussianCGCentralGradientError bounds each central difference's error by twice its
-// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
-// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
-// in forwardError).
-func gaussianCGCentralGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *gaussianCGCentralDifferences) {
-	noise := gaussianCGCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h := diffs.ratio[i] * gaussianCGCentralLarger(1, gaussianCGCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	gaussianCGCentralVerifyNothing = iota
+	gaussianCGCentralVerifyPass    // a difference gradient passed the test
+	gaussianCGCentralVerifyStall   // no step makes progress
+)
 
-// gaussianCGCentralGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func gaussianCGCentralGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
-	scale := gaussianCGCentralLarger(gaussianCGCentralAbs(fx), 1)
-	for i := range g {
-		w := gaussianCGCentralLarger(gaussianCGCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = gaussianCGCentralLarger(measure, (gaussianCGCentralAbs(g[i])+e[i])*w)
-		floor = gaussianCGCentralLarger(floor, e[i]*w)
+// gaussianCGCentralSettle prepares a verdict at x: with differences it confirms the
+// gradient (gaussianCGCentralConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (gaussianCGCentralRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func gaussianCGCentralSettle(x *[3]float64, fx float64, g, e *[3]float64, diffs *gaussianCGCentralDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if gaussianCGCentralDerivativeCost > 0 {
+		spent, ok := gaussianCGCentralConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
+	if stall {
+		gaussianCGCentralRoundingFloor(x, g, e, diffs)
+	}
+	return calls, true
 }
 
 // gaussianCGCentralConfirmGradient recomputes a difference gradient at x before the run is
@@ -678,33 +659,16 @@ func gaussianCGCentralConfirmGradient(x *[3]float64, fx float64, g, e *[3]float6
 	return calls + 2*gaussianCGCentralDerivativeCost, true
 }
 
-// gaussianCGCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func gaussianCGCentralStepWithin(s, x *[3]float64, tol float64) bool {
-	for i := range s {
-		if !(gaussianCGCentralAbs(s[i]) <= tol*(gaussianCGCentralAbs(x[i])+1)) {
-			return false
-		}
+// gaussianCGCentralGradientError bounds each central difference's error by twice its
+// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
+// in forwardError).
+func gaussianCGCentralGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *gaussianCGCentralDifferences) {
+	noise := gaussianCGCentralNoiseLevel(x, fx, g)
+	for i := range e {
+		h := diffs.ratio[i] * gaussianCGCentralLarger(1, gaussianCGCentralAbs(x[i]))
+		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
 	}
-	return true
-}
-
-// gaussianCGCentralSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (gaussianCGCentralConfirmGradient), then it adds to each error
-// bound the rounding floor of x (gaussianCGCentralRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func gaussianCGCentralSettle(x *[3]float64, fx float64, g, e *[3]float64, diffs *gaussianCGCentralDifferences, budget int) (int, bool) {
-	calls := 0
-	if gaussianCGCentralDerivativeCost > 0 {
-		spent, ok := gaussianCGCentralConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
-	}
-	gaussianCGCentralRoundingFloor(x, g, e, diffs)
-	return calls, true
 }
 
 // gaussianCGCentralRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -725,6 +689,39 @@ func gaussianCGCentralRoundingFloor(x, g, e *[3]float64, diffs *gaussianCGCentra
 // calibration, which gaussianCGCentralConfirmGradient has just made at x.
 func gaussianCGCentralDiagonalCurvature(x, g *[3]float64, diffs *gaussianCGCentralDifferences, h *[3]float64) {
 	*h = diffs.second
+}
+
+// gaussianCGCentralGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func gaussianCGCentralGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
+	scale := gaussianCGCentralLarger(gaussianCGCentralAbs(fx), 1)
+	for i := range g {
+		w := gaussianCGCentralLarger(gaussianCGCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = gaussianCGCentralLarger(measure, (gaussianCGCentralAbs(g[i])+e[i])*w)
+		floor = gaussianCGCentralLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// gaussianCGCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func gaussianCGCentralStepWithin(s, x *[3]float64, tol float64) bool {
+	for i := range s {
+		if !(gaussianCGCentralAbs(s[i]) <= tol*(gaussianCGCentralAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // gaussianCGCentralTinyStep returns the longest t for which the step t·d from x passes the

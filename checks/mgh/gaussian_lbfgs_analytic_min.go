@@ -191,11 +191,25 @@ func gaussianLBFGSAnalyticMinimize(x0 [3]float64, lim GaussianLBFGSAnalyticLimit
 	t, slope := float64(gaussianLBFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                       // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                             // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                // whether g and e at x come from gaussianLBFGSAnalyticConfirmGradient
+	confirmed := false                                                // whether g and e at x come from gaussianLBFGSAnalyticConfirmGradient or settle
 	stalled := false                                                  // whether the run can make no more progress at x
 	retried := -1                                                     // the iteration whose stall was retried with recalibrated differences
+	verify := gaussianLBFGSAnalyticVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != gaussianLBFGSAnalyticVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see gaussianLBFGSAnalyticConfirmGradient and settle).
+			calls, ok := gaussianLBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, verify == gaussianLBFGSAnalyticVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(GaussianLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !gaussianLBFGSAnalyticFiniteVec(&g) {
+				return best.ending(GaussianLBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = gaussianLBFGSAnalyticVerifyNothing, true
+		case !confirmed:
 			gaussianLBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := gaussianLBFGSAnalyticGradientMeasure(&g, &e, &x, fx)
@@ -213,17 +227,7 @@ func gaussianLBFGSAnalyticMinimize(x0 [3]float64, lim GaussianLBFGSAnalyticLimit
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := gaussianLBFGSAnalyticConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(GaussianLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !gaussianLBFGSAnalyticFiniteVec(&g) {
-				return best.ending(GaussianLBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = gaussianLBFGSAnalyticVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -241,15 +245,7 @@ func gaussianLBFGSAnalyticMinimize(x0 [3]float64, lim GaussianLBFGSAnalyticLimit
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if gaussianLBFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				calls, ok := gaussianLBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(GaussianLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !gaussianLBFGSAnalyticFiniteVec(&g) {
-					return best.ending(GaussianLBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = gaussianLBFGSAnalyticVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -290,15 +286,7 @@ func gaussianLBFGSAnalyticMinimize(x0 [3]float64, lim GaussianLBFGSAnalyticLimit
 			case found.rising:
 				end = GaussianLBFGSAnalyticNoDecrease
 			case found.end == gaussianLBFGSAnalyticSearchTiny && canSettle:
-				calls, ok := gaussianLBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(GaussianLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !gaussianLBFGSAnalyticFiniteVec(&g) {
-					return best.ending(GaussianLBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = gaussianLBFGSAnalyticVerifyStall, true
 				continue
 			case found.end == gaussianLBFGSAnalyticSearchTiny:
 				end = GaussianLBFGSAnalyticStalled
@@ -516,51 +504,30 @@ func gaussianLBFGSAnalyticCurvatureSafe(s, y *[3]float64) bool {
 	return sy > 0 && (sy/gaussianLBFGSAnalyticDot(s, s))*(sy/gaussianLBFGSAnalyticDot(y, y)) > gaussianLBFGSAnalyticUnitRoundoff
 }
 
-// gaussianLBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func gaussianLBFGSAnalyticGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *gaussianLBFGSAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	gaussianLBFGSAnalyticVerifyNothing = iota
+	gaussianLBFGSAnalyticVerifyPass    // a difference gradient passed the test
+	gaussianLBFGSAnalyticVerifyStall   // no step makes progress
+)
 
-// gaussianLBFGSAnalyticGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func gaussianLBFGSAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
-	scale := gaussianLBFGSAnalyticLarger(gaussianLBFGSAnalyticAbs(fx), 1)
-	for i := range g {
-		w := gaussianLBFGSAnalyticLarger(gaussianLBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = gaussianLBFGSAnalyticLarger(measure, (gaussianLBFGSAnalyticAbs(g[i])+e[i])*w)
-		floor = gaussianLBFGSAnalyticLarger(floor, e[i]*w)
+// gaussianLBFGSAnalyticSettle prepares a verdict at x: with differences it confirms the
+// gradient (gaussianLBFGSAnalyticConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (gaussianLBFGSAnalyticRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func gaussianLBFGSAnalyticSettle(x *[3]float64, fx float64, g, e *[3]float64, diffs *gaussianLBFGSAnalyticDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if gaussianLBFGSAnalyticDerivativeCost > 0 {
+		spent, ok := gaussianLBFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// gaussianLBFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func gaussianLBFGSAnalyticLarger(a, b float64) float64 {
-	if a > b || a != a {
-		return a
+	if stall {
+		gaussianLBFGSAnalyticRoundingFloor(x, g, e, diffs)
 	}
-	return b
-}
-
-// gaussianLBFGSAnalyticAbs returns |v|.
-func gaussianLBFGSAnalyticAbs(v float64) float64 {
-	if v < 0 {
-		return -v
-	}
-	return v
+	return calls, true
 }
 
 // gaussianLBFGSAnalyticConfirmGradient recomputes a difference gradient at x before the run is
@@ -593,33 +560,20 @@ func gaussianLBFGSAnalyticConfirmGradient(x *[3]float64, fx float64, g, e *[3]fl
 	return calls + 2*gaussianLBFGSAnalyticDerivativeCost, true
 }
 
-// gaussianLBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func gaussianLBFGSAnalyticStepWithin(s, x *[3]float64, tol float64) bool {
-	for i := range s {
-		if !(gaussianLBFGSAnalyticAbs(s[i]) <= tol*(gaussianLBFGSAnalyticAbs(x[i])+1)) {
-			return false
-		}
+// gaussianLBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func gaussianLBFGSAnalyticGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *gaussianLBFGSAnalyticDifferences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// gaussianLBFGSAnalyticSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (gaussianLBFGSAnalyticConfirmGradient), then it adds to each error
-// bound the rounding floor of x (gaussianLBFGSAnalyticRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func gaussianLBFGSAnalyticSettle(x *[3]float64, fx float64, g, e *[3]float64, diffs *gaussianLBFGSAnalyticDifferences, budget int) (int, bool) {
-	calls := 0
-	if gaussianLBFGSAnalyticDerivativeCost > 0 {
-		spent, ok := gaussianLBFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// gaussianLBFGSAnalyticAbs returns |v|.
+func gaussianLBFGSAnalyticAbs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	gaussianLBFGSAnalyticRoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // gaussianLBFGSAnalyticRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -662,6 +616,49 @@ func gaussianLBFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
 // gaussianLBFGSAnalyticSquareRoot returns √v.
 func gaussianLBFGSAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// gaussianLBFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func gaussianLBFGSAnalyticLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// gaussianLBFGSAnalyticGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func gaussianLBFGSAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
+	scale := gaussianLBFGSAnalyticLarger(gaussianLBFGSAnalyticAbs(fx), 1)
+	for i := range g {
+		w := gaussianLBFGSAnalyticLarger(gaussianLBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = gaussianLBFGSAnalyticLarger(measure, (gaussianLBFGSAnalyticAbs(g[i])+e[i])*w)
+		floor = gaussianLBFGSAnalyticLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// gaussianLBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func gaussianLBFGSAnalyticStepWithin(s, x *[3]float64, tol float64) bool {
+	for i := range s {
+		if !(gaussianLBFGSAnalyticAbs(s[i]) <= tol*(gaussianLBFGSAnalyticAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // gaussianLBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the

@@ -191,11 +191,25 @@ func gaussianLBFGSCentralMinimize(x0 [3]float64, lim GaussianLBFGSCentralLimits)
 	t, slope := float64(gaussianLBFGSCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                      // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                            // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                               // whether g and e at x come from gaussianLBFGSCentralConfirmGradient
+	confirmed := false                                               // whether g and e at x come from gaussianLBFGSCentralConfirmGradient or settle
 	stalled := false                                                 // whether the run can make no more progress at x
 	retried := -1                                                    // the iteration whose stall was retried with recalibrated differences
+	verify := gaussianLBFGSCentralVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != gaussianLBFGSCentralVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see gaussianLBFGSCentralConfirmGradient and settle).
+			calls, ok := gaussianLBFGSCentralSettle(&x, fx, &g, &e, &diffs, verify == gaussianLBFGSCentralVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(GaussianLBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !gaussianLBFGSCentralFiniteVec(&g) {
+				return best.ending(GaussianLBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = gaussianLBFGSCentralVerifyNothing, true
+		case !confirmed:
 			gaussianLBFGSCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := gaussianLBFGSCentralGradientMeasure(&g, &e, &x, fx)
@@ -213,17 +227,7 @@ func gaussianLBFGSCentralMinimize(x0 [3]float64, lim GaussianLBFGSCentralLimits)
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := gaussianLBFGSCentralConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(GaussianLBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !gaussianLBFGSCentralFiniteVec(&g) {
-				return best.ending(GaussianLBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = gaussianLBFGSCentralVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -241,15 +245,7 @@ func gaussianLBFGSCentralMinimize(x0 [3]float64, lim GaussianLBFGSCentralLimits)
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if gaussianLBFGSCentralStepWithin(&s, &x, lim.Step) {
-				calls, ok := gaussianLBFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(GaussianLBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !gaussianLBFGSCentralFiniteVec(&g) {
-					return best.ending(GaussianLBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = gaussianLBFGSCentralVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -290,15 +286,7 @@ func gaussianLBFGSCentralMinimize(x0 [3]float64, lim GaussianLBFGSCentralLimits)
 			case found.rising:
 				end = GaussianLBFGSCentralNoDecrease
 			case found.end == gaussianLBFGSCentralSearchTiny && canSettle:
-				calls, ok := gaussianLBFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(GaussianLBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !gaussianLBFGSCentralFiniteVec(&g) {
-					return best.ending(GaussianLBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = gaussianLBFGSCentralVerifyStall, true
 				continue
 			case found.end == gaussianLBFGSCentralSearchTiny:
 				end = GaussianLBFGSCentralStalled
@@ -659,37 +647,30 @@ func gaussianLBFGSCentralCurvatureSafe(s, y *[3]float64) bool {
 	return sy > 0 && (sy/gaussianLBFGSCentralDot(s, s))*(sy/gaussianLBFGSCentralDot(y, y)) > gaussianLBFGSCentralUnitRoundoff
 }
 
-// gaussianLBFGSCentralGradientError bounds each central difference's error by twice its
-// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
-// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
-// in forwardError).
-func gaussianLBFGSCentralGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *gaussianLBFGSCentralDifferences) {
-	noise := gaussianLBFGSCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h := diffs.ratio[i] * gaussianLBFGSCentralLarger(1, gaussianLBFGSCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	gaussianLBFGSCentralVerifyNothing = iota
+	gaussianLBFGSCentralVerifyPass    // a difference gradient passed the test
+	gaussianLBFGSCentralVerifyStall   // no step makes progress
+)
 
-// gaussianLBFGSCentralGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func gaussianLBFGSCentralGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
-	scale := gaussianLBFGSCentralLarger(gaussianLBFGSCentralAbs(fx), 1)
-	for i := range g {
-		w := gaussianLBFGSCentralLarger(gaussianLBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = gaussianLBFGSCentralLarger(measure, (gaussianLBFGSCentralAbs(g[i])+e[i])*w)
-		floor = gaussianLBFGSCentralLarger(floor, e[i]*w)
+// gaussianLBFGSCentralSettle prepares a verdict at x: with differences it confirms the
+// gradient (gaussianLBFGSCentralConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (gaussianLBFGSCentralRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func gaussianLBFGSCentralSettle(x *[3]float64, fx float64, g, e *[3]float64, diffs *gaussianLBFGSCentralDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if gaussianLBFGSCentralDerivativeCost > 0 {
+		spent, ok := gaussianLBFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
+	if stall {
+		gaussianLBFGSCentralRoundingFloor(x, g, e, diffs)
+	}
+	return calls, true
 }
 
 // gaussianLBFGSCentralConfirmGradient recomputes a difference gradient at x before the run is
@@ -722,33 +703,16 @@ func gaussianLBFGSCentralConfirmGradient(x *[3]float64, fx float64, g, e *[3]flo
 	return calls + 2*gaussianLBFGSCentralDerivativeCost, true
 }
 
-// gaussianLBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func gaussianLBFGSCentralStepWithin(s, x *[3]float64, tol float64) bool {
-	for i := range s {
-		if !(gaussianLBFGSCentralAbs(s[i]) <= tol*(gaussianLBFGSCentralAbs(x[i])+1)) {
-			return false
-		}
+// gaussianLBFGSCentralGradientError bounds each central difference's error by twice its
+// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
+// in forwardError).
+func gaussianLBFGSCentralGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *gaussianLBFGSCentralDifferences) {
+	noise := gaussianLBFGSCentralNoiseLevel(x, fx, g)
+	for i := range e {
+		h := diffs.ratio[i] * gaussianLBFGSCentralLarger(1, gaussianLBFGSCentralAbs(x[i]))
+		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
 	}
-	return true
-}
-
-// gaussianLBFGSCentralSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (gaussianLBFGSCentralConfirmGradient), then it adds to each error
-// bound the rounding floor of x (gaussianLBFGSCentralRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func gaussianLBFGSCentralSettle(x *[3]float64, fx float64, g, e *[3]float64, diffs *gaussianLBFGSCentralDifferences, budget int) (int, bool) {
-	calls := 0
-	if gaussianLBFGSCentralDerivativeCost > 0 {
-		spent, ok := gaussianLBFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
-	}
-	gaussianLBFGSCentralRoundingFloor(x, g, e, diffs)
-	return calls, true
 }
 
 // gaussianLBFGSCentralRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -769,6 +733,39 @@ func gaussianLBFGSCentralRoundingFloor(x, g, e *[3]float64, diffs *gaussianLBFGS
 // calibration, which gaussianLBFGSCentralConfirmGradient has just made at x.
 func gaussianLBFGSCentralDiagonalCurvature(x, g *[3]float64, diffs *gaussianLBFGSCentralDifferences, h *[3]float64) {
 	*h = diffs.second
+}
+
+// gaussianLBFGSCentralGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func gaussianLBFGSCentralGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
+	scale := gaussianLBFGSCentralLarger(gaussianLBFGSCentralAbs(fx), 1)
+	for i := range g {
+		w := gaussianLBFGSCentralLarger(gaussianLBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = gaussianLBFGSCentralLarger(measure, (gaussianLBFGSCentralAbs(g[i])+e[i])*w)
+		floor = gaussianLBFGSCentralLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// gaussianLBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func gaussianLBFGSCentralStepWithin(s, x *[3]float64, tol float64) bool {
+	for i := range s {
+		if !(gaussianLBFGSCentralAbs(s[i]) <= tol*(gaussianLBFGSCentralAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // gaussianLBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the

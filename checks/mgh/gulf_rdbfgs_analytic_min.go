@@ -190,11 +190,25 @@ func gulfRDBFGSAnalyticMinimize(x0 [3]float64, lim GulfRDBFGSAnalyticLimits) gul
 	t, slope := float64(gulfRDBFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                    // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                          // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                             // whether g and e at x come from gulfRDBFGSAnalyticConfirmGradient
+	confirmed := false                                             // whether g and e at x come from gulfRDBFGSAnalyticConfirmGradient or settle
 	stalled := false                                               // whether the run can make no more progress at x
 	retried := -1                                                  // the iteration whose stall was retried with recalibrated differences
+	verify := gulfRDBFGSAnalyticVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != gulfRDBFGSAnalyticVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see gulfRDBFGSAnalyticConfirmGradient and settle).
+			calls, ok := gulfRDBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, verify == gulfRDBFGSAnalyticVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(GulfRDBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !gulfRDBFGSAnalyticFiniteVec(&g) {
+				return best.ending(GulfRDBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = gulfRDBFGSAnalyticVerifyNothing, true
+		case !confirmed:
 			gulfRDBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := gulfRDBFGSAnalyticGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func gulfRDBFGSAnalyticMinimize(x0 [3]float64, lim GulfRDBFGSAnalyticLimits) gul
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := gulfRDBFGSAnalyticConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(GulfRDBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !gulfRDBFGSAnalyticFiniteVec(&g) {
-				return best.ending(GulfRDBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = gulfRDBFGSAnalyticVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func gulfRDBFGSAnalyticMinimize(x0 [3]float64, lim GulfRDBFGSAnalyticLimits) gul
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if gulfRDBFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				calls, ok := gulfRDBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(GulfRDBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !gulfRDBFGSAnalyticFiniteVec(&g) {
-					return best.ending(GulfRDBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = gulfRDBFGSAnalyticVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func gulfRDBFGSAnalyticMinimize(x0 [3]float64, lim GulfRDBFGSAnalyticLimits) gul
 			case found.rising:
 				end = GulfRDBFGSAnalyticNoDecrease
 			case found.end == gulfRDBFGSAnalyticSearchTiny && canSettle:
-				calls, ok := gulfRDBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(GulfRDBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !gulfRDBFGSAnalyticFiniteVec(&g) {
-					return best.ending(GulfRDBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = gulfRDBFGSAnalyticVerifyStall, true
 				continue
 			case found.end == gulfRDBFGSAnalyticSearchTiny:
 				end = GulfRDBFGSAnalyticStalled
@@ -490,51 +478,30 @@ func gulfRDBFGSAnalyticCurvatureSafe(s, y *[3]float64) bool {
 	return sy > 0 && (sy/gulfRDBFGSAnalyticDot(s, s))*(sy/gulfRDBFGSAnalyticDot(y, y)) > gulfRDBFGSAnalyticUnitRoundoff
 }
 
-// gulfRDBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func gulfRDBFGSAnalyticGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *gulfRDBFGSAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	gulfRDBFGSAnalyticVerifyNothing = iota
+	gulfRDBFGSAnalyticVerifyPass    // a difference gradient passed the test
+	gulfRDBFGSAnalyticVerifyStall   // no step makes progress
+)
 
-// gulfRDBFGSAnalyticGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func gulfRDBFGSAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
-	scale := gulfRDBFGSAnalyticLarger(gulfRDBFGSAnalyticAbs(fx), 1)
-	for i := range g {
-		w := gulfRDBFGSAnalyticLarger(gulfRDBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = gulfRDBFGSAnalyticLarger(measure, (gulfRDBFGSAnalyticAbs(g[i])+e[i])*w)
-		floor = gulfRDBFGSAnalyticLarger(floor, e[i]*w)
+// gulfRDBFGSAnalyticSettle prepares a verdict at x: with differences it confirms the
+// gradient (gulfRDBFGSAnalyticConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (gulfRDBFGSAnalyticRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func gulfRDBFGSAnalyticSettle(x *[3]float64, fx float64, g, e *[3]float64, diffs *gulfRDBFGSAnalyticDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if gulfRDBFGSAnalyticDerivativeCost > 0 {
+		spent, ok := gulfRDBFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// gulfRDBFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func gulfRDBFGSAnalyticLarger(a, b float64) float64 {
-	if a > b || a != a {
-		return a
+	if stall {
+		gulfRDBFGSAnalyticRoundingFloor(x, g, e, diffs)
 	}
-	return b
-}
-
-// gulfRDBFGSAnalyticAbs returns |v|.
-func gulfRDBFGSAnalyticAbs(v float64) float64 {
-	if v < 0 {
-		return -v
-	}
-	return v
+	return calls, true
 }
 
 // gulfRDBFGSAnalyticConfirmGradient recomputes a difference gradient at x before the run is
@@ -567,33 +534,20 @@ func gulfRDBFGSAnalyticConfirmGradient(x *[3]float64, fx float64, g, e *[3]float
 	return calls + 2*gulfRDBFGSAnalyticDerivativeCost, true
 }
 
-// gulfRDBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func gulfRDBFGSAnalyticStepWithin(s, x *[3]float64, tol float64) bool {
-	for i := range s {
-		if !(gulfRDBFGSAnalyticAbs(s[i]) <= tol*(gulfRDBFGSAnalyticAbs(x[i])+1)) {
-			return false
-		}
+// gulfRDBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func gulfRDBFGSAnalyticGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *gulfRDBFGSAnalyticDifferences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// gulfRDBFGSAnalyticSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (gulfRDBFGSAnalyticConfirmGradient), then it adds to each error
-// bound the rounding floor of x (gulfRDBFGSAnalyticRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func gulfRDBFGSAnalyticSettle(x *[3]float64, fx float64, g, e *[3]float64, diffs *gulfRDBFGSAnalyticDifferences, budget int) (int, bool) {
-	calls := 0
-	if gulfRDBFGSAnalyticDerivativeCost > 0 {
-		spent, ok := gulfRDBFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// gulfRDBFGSAnalyticAbs returns |v|.
+func gulfRDBFGSAnalyticAbs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	gulfRDBFGSAnalyticRoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // gulfRDBFGSAnalyticRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -636,6 +590,49 @@ func gulfRDBFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
 // gulfRDBFGSAnalyticSquareRoot returns √v.
 func gulfRDBFGSAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// gulfRDBFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func gulfRDBFGSAnalyticLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// gulfRDBFGSAnalyticGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func gulfRDBFGSAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
+	scale := gulfRDBFGSAnalyticLarger(gulfRDBFGSAnalyticAbs(fx), 1)
+	for i := range g {
+		w := gulfRDBFGSAnalyticLarger(gulfRDBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = gulfRDBFGSAnalyticLarger(measure, (gulfRDBFGSAnalyticAbs(g[i])+e[i])*w)
+		floor = gulfRDBFGSAnalyticLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// gulfRDBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func gulfRDBFGSAnalyticStepWithin(s, x *[3]float64, tol float64) bool {
+	for i := range s {
+		if !(gulfRDBFGSAnalyticAbs(s[i]) <= tol*(gulfRDBFGSAnalyticAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // gulfRDBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the

@@ -190,11 +190,25 @@ func gulfRDBFGSCentralMinimize(x0 [3]float64, lim GulfRDBFGSCentralLimits) gulfR
 	t, slope := float64(gulfRDBFGSCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                   // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                         // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                            // whether g and e at x come from gulfRDBFGSCentralConfirmGradient
+	confirmed := false                                            // whether g and e at x come from gulfRDBFGSCentralConfirmGradient or settle
 	stalled := false                                              // whether the run can make no more progress at x
 	retried := -1                                                 // the iteration whose stall was retried with recalibrated differences
+	verify := gulfRDBFGSCentralVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != gulfRDBFGSCentralVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see gulfRDBFGSCentralConfirmGradient and settle).
+			calls, ok := gulfRDBFGSCentralSettle(&x, fx, &g, &e, &diffs, verify == gulfRDBFGSCentralVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(GulfRDBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !gulfRDBFGSCentralFiniteVec(&g) {
+				return best.ending(GulfRDBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = gulfRDBFGSCentralVerifyNothing, true
+		case !confirmed:
 			gulfRDBFGSCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := gulfRDBFGSCentralGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func gulfRDBFGSCentralMinimize(x0 [3]float64, lim GulfRDBFGSCentralLimits) gulfR
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := gulfRDBFGSCentralConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(GulfRDBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !gulfRDBFGSCentralFiniteVec(&g) {
-				return best.ending(GulfRDBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = gulfRDBFGSCentralVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func gulfRDBFGSCentralMinimize(x0 [3]float64, lim GulfRDBFGSCentralLimits) gulfR
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if gulfRDBFGSCentralStepWithin(&s, &x, lim.Step) {
-				calls, ok := gulfRDBFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(GulfRDBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !gulfRDBFGSCentralFiniteVec(&g) {
-					return best.ending(GulfRDBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = gulfRDBFGSCentralVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func gulfRDBFGSCentralMinimize(x0 [3]float64, lim GulfRDBFGSCentralLimits) gulfR
 			case found.rising:
 				end = GulfRDBFGSCentralNoDecrease
 			case found.end == gulfRDBFGSCentralSearchTiny && canSettle:
-				calls, ok := gulfRDBFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(GulfRDBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !gulfRDBFGSCentralFiniteVec(&g) {
-					return best.ending(GulfRDBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = gulfRDBFGSCentralVerifyStall, true
 				continue
 			case found.end == gulfRDBFGSCentralSearchTiny:
 				end = GulfRDBFGSCentralStalled
@@ -633,37 +621,30 @@ func gulfRDBFGSCentralCurvatureSafe(s, y *[3]float64) bool {
 	return sy > 0 && (sy/gulfRDBFGSCentralDot(s, s))*(sy/gulfRDBFGSCentralDot(y, y)) > gulfRDBFGSCentralUnitRoundoff
 }
 
-// gulfRDBFGSCentralGradientError bounds each central difference's error by twice its
-// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
-// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
-// in forwardError).
-func gulfRDBFGSCentralGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *gulfRDBFGSCentralDifferences) {
-	noise := gulfRDBFGSCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h := diffs.ratio[i] * gulfRDBFGSCentralLarger(1, gulfRDBFGSCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	gulfRDBFGSCentralVerifyNothing = iota
+	gulfRDBFGSCentralVerifyPass    // a difference gradient passed the test
+	gulfRDBFGSCentralVerifyStall   // no step makes progress
+)
 
-// gulfRDBFGSCentralGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func gulfRDBFGSCentralGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
-	scale := gulfRDBFGSCentralLarger(gulfRDBFGSCentralAbs(fx), 1)
-	for i := range g {
-		w := gulfRDBFGSCentralLarger(gulfRDBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = gulfRDBFGSCentralLarger(measure, (gulfRDBFGSCentralAbs(g[i])+e[i])*w)
-		floor = gulfRDBFGSCentralLarger(floor, e[i]*w)
+// gulfRDBFGSCentralSettle prepares a verdict at x: with differences it confirms the
+// gradient (gulfRDBFGSCentralConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (gulfRDBFGSCentralRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func gulfRDBFGSCentralSettle(x *[3]float64, fx float64, g, e *[3]float64, diffs *gulfRDBFGSCentralDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if gulfRDBFGSCentralDerivativeCost > 0 {
+		spent, ok := gulfRDBFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
+	if stall {
+		gulfRDBFGSCentralRoundingFloor(x, g, e, diffs)
+	}
+	return calls, true
 }
 
 // gulfRDBFGSCentralConfirmGradient recomputes a difference gradient at x before the run is
@@ -696,33 +677,16 @@ func gulfRDBFGSCentralConfirmGradient(x *[3]float64, fx float64, g, e *[3]float6
 	return calls + 2*gulfRDBFGSCentralDerivativeCost, true
 }
 
-// gulfRDBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func gulfRDBFGSCentralStepWithin(s, x *[3]float64, tol float64) bool {
-	for i := range s {
-		if !(gulfRDBFGSCentralAbs(s[i]) <= tol*(gulfRDBFGSCentralAbs(x[i])+1)) {
-			return false
-		}
+// gulfRDBFGSCentralGradientError bounds each central difference's error by twice its
+// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
+// in forwardError).
+func gulfRDBFGSCentralGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *gulfRDBFGSCentralDifferences) {
+	noise := gulfRDBFGSCentralNoiseLevel(x, fx, g)
+	for i := range e {
+		h := diffs.ratio[i] * gulfRDBFGSCentralLarger(1, gulfRDBFGSCentralAbs(x[i]))
+		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
 	}
-	return true
-}
-
-// gulfRDBFGSCentralSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (gulfRDBFGSCentralConfirmGradient), then it adds to each error
-// bound the rounding floor of x (gulfRDBFGSCentralRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func gulfRDBFGSCentralSettle(x *[3]float64, fx float64, g, e *[3]float64, diffs *gulfRDBFGSCentralDifferences, budget int) (int, bool) {
-	calls := 0
-	if gulfRDBFGSCentralDerivativeCost > 0 {
-		spent, ok := gulfRDBFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
-	}
-	gulfRDBFGSCentralRoundingFloor(x, g, e, diffs)
-	return calls, true
 }
 
 // gulfRDBFGSCentralRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -743,6 +707,39 @@ func gulfRDBFGSCentralRoundingFloor(x, g, e *[3]float64, diffs *gulfRDBFGSCentra
 // calibration, which gulfRDBFGSCentralConfirmGradient has just made at x.
 func gulfRDBFGSCentralDiagonalCurvature(x, g *[3]float64, diffs *gulfRDBFGSCentralDifferences, h *[3]float64) {
 	*h = diffs.second
+}
+
+// gulfRDBFGSCentralGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func gulfRDBFGSCentralGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
+	scale := gulfRDBFGSCentralLarger(gulfRDBFGSCentralAbs(fx), 1)
+	for i := range g {
+		w := gulfRDBFGSCentralLarger(gulfRDBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = gulfRDBFGSCentralLarger(measure, (gulfRDBFGSCentralAbs(g[i])+e[i])*w)
+		floor = gulfRDBFGSCentralLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// gulfRDBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func gulfRDBFGSCentralStepWithin(s, x *[3]float64, tol float64) bool {
+	for i := range s {
+		if !(gulfRDBFGSCentralAbs(s[i]) <= tol*(gulfRDBFGSCentralAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // gulfRDBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the

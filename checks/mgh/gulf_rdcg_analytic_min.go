@@ -190,11 +190,25 @@ func gulfRDCGAnalyticMinimize(x0 [3]float64, lim GulfRDCGAnalyticLimits) gulfRDC
 	t, slope := float64(gulfRDCGAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                  // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                        // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                           // whether g and e at x come from gulfRDCGAnalyticConfirmGradient
+	confirmed := false                                           // whether g and e at x come from gulfRDCGAnalyticConfirmGradient or settle
 	stalled := false                                             // whether the run can make no more progress at x
 	retried := -1                                                // the iteration whose stall was retried with recalibrated differences
+	verify := gulfRDCGAnalyticVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != gulfRDCGAnalyticVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see gulfRDCGAnalyticConfirmGradient and settle).
+			calls, ok := gulfRDCGAnalyticSettle(&x, fx, &g, &e, &diffs, verify == gulfRDCGAnalyticVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(GulfRDCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !gulfRDCGAnalyticFiniteVec(&g) {
+				return best.ending(GulfRDCGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = gulfRDCGAnalyticVerifyNothing, true
+		case !confirmed:
 			gulfRDCGAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := gulfRDCGAnalyticGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func gulfRDCGAnalyticMinimize(x0 [3]float64, lim GulfRDCGAnalyticLimits) gulfRDC
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := gulfRDCGAnalyticConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(GulfRDCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !gulfRDCGAnalyticFiniteVec(&g) {
-				return best.ending(GulfRDCGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = gulfRDCGAnalyticVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func gulfRDCGAnalyticMinimize(x0 [3]float64, lim GulfRDCGAnalyticLimits) gulfRDC
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if gulfRDCGAnalyticStepWithin(&s, &x, lim.Step) {
-				calls, ok := gulfRDCGAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(GulfRDCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !gulfRDCGAnalyticFiniteVec(&g) {
-					return best.ending(GulfRDCGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = gulfRDCGAnalyticVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func gulfRDCGAnalyticMinimize(x0 [3]float64, lim GulfRDCGAnalyticLimits) gulfRDC
 			case found.rising:
 				end = GulfRDCGAnalyticNoDecrease
 			case found.end == gulfRDCGAnalyticSearchTiny && canSettle:
-				calls, ok := gulfRDCGAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(GulfRDCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !gulfRDCGAnalyticFiniteVec(&g) {
-					return best.ending(GulfRDCGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = gulfRDCGAnalyticVerifyStall, true
 				continue
 			case found.end == gulfRDCGAnalyticSearchTiny:
 				end = GulfRDCGAnalyticStalled
@@ -482,41 +470,30 @@ func gulfRDCGAnalyticScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
-// gulfRDCGAnalyticGradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func gulfRDCGAnalyticGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *gulfRDCGAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	gulfRDCGAnalyticVerifyNothing = iota
+	gulfRDCGAnalyticVerifyPass    // a difference gradient passed the test
+	gulfRDCGAnalyticVerifyStall   // no step makes progress
+)
 
-// gulfRDCGAnalyticGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func gulfRDCGAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
-	scale := gulfRDCGAnalyticLarger(gulfRDCGAnalyticAbs(fx), 1)
-	for i := range g {
-		w := gulfRDCGAnalyticLarger(gulfRDCGAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = gulfRDCGAnalyticLarger(measure, (gulfRDCGAnalyticAbs(g[i])+e[i])*w)
-		floor = gulfRDCGAnalyticLarger(floor, e[i]*w)
+// gulfRDCGAnalyticSettle prepares a verdict at x: with differences it confirms the
+// gradient (gulfRDCGAnalyticConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (gulfRDCGAnalyticRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func gulfRDCGAnalyticSettle(x *[3]float64, fx float64, g, e *[3]float64, diffs *gulfRDCGAnalyticDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if gulfRDCGAnalyticDerivativeCost > 0 {
+		spent, ok := gulfRDCGAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// gulfRDCGAnalyticAbs returns |v|.
-func gulfRDCGAnalyticAbs(v float64) float64 {
-	if v < 0 {
-		return -v
+	if stall {
+		gulfRDCGAnalyticRoundingFloor(x, g, e, diffs)
 	}
-	return v
+	return calls, true
 }
 
 // gulfRDCGAnalyticConfirmGradient recomputes a difference gradient at x before the run is
@@ -549,33 +526,20 @@ func gulfRDCGAnalyticConfirmGradient(x *[3]float64, fx float64, g, e *[3]float64
 	return calls + 2*gulfRDCGAnalyticDerivativeCost, true
 }
 
-// gulfRDCGAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func gulfRDCGAnalyticStepWithin(s, x *[3]float64, tol float64) bool {
-	for i := range s {
-		if !(gulfRDCGAnalyticAbs(s[i]) <= tol*(gulfRDCGAnalyticAbs(x[i])+1)) {
-			return false
-		}
+// gulfRDCGAnalyticGradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func gulfRDCGAnalyticGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *gulfRDCGAnalyticDifferences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// gulfRDCGAnalyticSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (gulfRDCGAnalyticConfirmGradient), then it adds to each error
-// bound the rounding floor of x (gulfRDCGAnalyticRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func gulfRDCGAnalyticSettle(x *[3]float64, fx float64, g, e *[3]float64, diffs *gulfRDCGAnalyticDifferences, budget int) (int, bool) {
-	calls := 0
-	if gulfRDCGAnalyticDerivativeCost > 0 {
-		spent, ok := gulfRDCGAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// gulfRDCGAnalyticAbs returns |v|.
+func gulfRDCGAnalyticAbs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	gulfRDCGAnalyticRoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // gulfRDCGAnalyticRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -618,6 +582,39 @@ func gulfRDCGAnalyticProbeStep(xi, h float64) (float64, float64) {
 // gulfRDCGAnalyticSquareRoot returns √v.
 func gulfRDCGAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// gulfRDCGAnalyticGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func gulfRDCGAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
+	scale := gulfRDCGAnalyticLarger(gulfRDCGAnalyticAbs(fx), 1)
+	for i := range g {
+		w := gulfRDCGAnalyticLarger(gulfRDCGAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = gulfRDCGAnalyticLarger(measure, (gulfRDCGAnalyticAbs(g[i])+e[i])*w)
+		floor = gulfRDCGAnalyticLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// gulfRDCGAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func gulfRDCGAnalyticStepWithin(s, x *[3]float64, tol float64) bool {
+	for i := range s {
+		if !(gulfRDCGAnalyticAbs(s[i]) <= tol*(gulfRDCGAnalyticAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // gulfRDCGAnalyticTinyStep returns the longest t for which the step t·d from x passes the

@@ -190,11 +190,25 @@ func gulfRDCGCentralMinimize(x0 [3]float64, lim GulfRDCGCentralLimits) gulfRDCGC
 	t, slope := float64(gulfRDCGCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                 // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                       // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                          // whether g and e at x come from gulfRDCGCentralConfirmGradient
+	confirmed := false                                          // whether g and e at x come from gulfRDCGCentralConfirmGradient or settle
 	stalled := false                                            // whether the run can make no more progress at x
 	retried := -1                                               // the iteration whose stall was retried with recalibrated differences
+	verify := gulfRDCGCentralVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != gulfRDCGCentralVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see gulfRDCGCentralConfirmGradient and settle).
+			calls, ok := gulfRDCGCentralSettle(&x, fx, &g, &e, &diffs, verify == gulfRDCGCentralVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(GulfRDCGCentralOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !gulfRDCGCentralFiniteVec(&g) {
+				return best.ending(GulfRDCGCentralNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = gulfRDCGCentralVerifyNothing, true
+		case !confirmed:
 			gulfRDCGCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := gulfRDCGCentralGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func gulfRDCGCentralMinimize(x0 [3]float64, lim GulfRDCGCentralLimits) gulfRDCGC
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := gulfRDCGCentralConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(GulfRDCGCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !gulfRDCGCentralFiniteVec(&g) {
-				return best.ending(GulfRDCGCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = gulfRDCGCentralVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func gulfRDCGCentralMinimize(x0 [3]float64, lim GulfRDCGCentralLimits) gulfRDCGC
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if gulfRDCGCentralStepWithin(&s, &x, lim.Step) {
-				calls, ok := gulfRDCGCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(GulfRDCGCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !gulfRDCGCentralFiniteVec(&g) {
-					return best.ending(GulfRDCGCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = gulfRDCGCentralVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func gulfRDCGCentralMinimize(x0 [3]float64, lim GulfRDCGCentralLimits) gulfRDCGC
 			case found.rising:
 				end = GulfRDCGCentralNoDecrease
 			case found.end == gulfRDCGCentralSearchTiny && canSettle:
-				calls, ok := gulfRDCGCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(GulfRDCGCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !gulfRDCGCentralFiniteVec(&g) {
-					return best.ending(GulfRDCGCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = gulfRDCGCentralVerifyStall, true
 				continue
 			case found.end == gulfRDCGCentralSearchTiny:
 				end = GulfRDCGCentralStalled
@@ -615,37 +603,30 @@ func gulfRDCGCentralScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
-// gulfRDCGCentralGradientError bounds each central difference's error by twice its
-// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
-// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
-// in forwardError).
-func gulfRDCGCentralGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *gulfRDCGCentralDifferences) {
-	noise := gulfRDCGCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h := diffs.ratio[i] * gulfRDCGCentralLarger(1, gulfRDCGCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	gulfRDCGCentralVerifyNothing = iota
+	gulfRDCGCentralVerifyPass    // a difference gradient passed the test
+	gulfRDCGCentralVerifyStall   // no step makes progress
+)
 
-// gulfRDCGCentralGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func gulfRDCGCentralGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
-	scale := gulfRDCGCentralLarger(gulfRDCGCentralAbs(fx), 1)
-	for i := range g {
-		w := gulfRDCGCentralLarger(gulfRDCGCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = gulfRDCGCentralLarger(measure, (gulfRDCGCentralAbs(g[i])+e[i])*w)
-		floor = gulfRDCGCentralLarger(floor, e[i]*w)
+// gulfRDCGCentralSettle prepares a verdict at x: with differences it confirms the
+// gradient (gulfRDCGCentralConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (gulfRDCGCentralRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func gulfRDCGCentralSettle(x *[3]float64, fx float64, g, e *[3]float64, diffs *gulfRDCGCentralDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if gulfRDCGCentralDerivativeCost > 0 {
+		spent, ok := gulfRDCGCentralConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
+	if stall {
+		gulfRDCGCentralRoundingFloor(x, g, e, diffs)
+	}
+	return calls, true
 }
 
 // gulfRDCGCentralConfirmGradient recomputes a difference gradient at x before the run is
@@ -678,33 +659,16 @@ func gulfRDCGCentralConfirmGradient(x *[3]float64, fx float64, g, e *[3]float64,
 	return calls + 2*gulfRDCGCentralDerivativeCost, true
 }
 
-// gulfRDCGCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func gulfRDCGCentralStepWithin(s, x *[3]float64, tol float64) bool {
-	for i := range s {
-		if !(gulfRDCGCentralAbs(s[i]) <= tol*(gulfRDCGCentralAbs(x[i])+1)) {
-			return false
-		}
+// gulfRDCGCentralGradientError bounds each central difference's error by twice its
+// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
+// in forwardError).
+func gulfRDCGCentralGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *gulfRDCGCentralDifferences) {
+	noise := gulfRDCGCentralNoiseLevel(x, fx, g)
+	for i := range e {
+		h := diffs.ratio[i] * gulfRDCGCentralLarger(1, gulfRDCGCentralAbs(x[i]))
+		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
 	}
-	return true
-}
-
-// gulfRDCGCentralSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (gulfRDCGCentralConfirmGradient), then it adds to each error
-// bound the rounding floor of x (gulfRDCGCentralRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func gulfRDCGCentralSettle(x *[3]float64, fx float64, g, e *[3]float64, diffs *gulfRDCGCentralDifferences, budget int) (int, bool) {
-	calls := 0
-	if gulfRDCGCentralDerivativeCost > 0 {
-		spent, ok := gulfRDCGCentralConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
-	}
-	gulfRDCGCentralRoundingFloor(x, g, e, diffs)
-	return calls, true
 }
 
 // gulfRDCGCentralRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -725,6 +689,39 @@ func gulfRDCGCentralRoundingFloor(x, g, e *[3]float64, diffs *gulfRDCGCentralDif
 // calibration, which gulfRDCGCentralConfirmGradient has just made at x.
 func gulfRDCGCentralDiagonalCurvature(x, g *[3]float64, diffs *gulfRDCGCentralDifferences, h *[3]float64) {
 	*h = diffs.second
+}
+
+// gulfRDCGCentralGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func gulfRDCGCentralGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
+	scale := gulfRDCGCentralLarger(gulfRDCGCentralAbs(fx), 1)
+	for i := range g {
+		w := gulfRDCGCentralLarger(gulfRDCGCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = gulfRDCGCentralLarger(measure, (gulfRDCGCentralAbs(g[i])+e[i])*w)
+		floor = gulfRDCGCentralLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// gulfRDCGCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func gulfRDCGCentralStepWithin(s, x *[3]float64, tol float64) bool {
+	for i := range s {
+		if !(gulfRDCGCentralAbs(s[i]) <= tol*(gulfRDCGCentralAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // gulfRDCGCentralTinyStep returns the longest t for which the step t·d from x passes the

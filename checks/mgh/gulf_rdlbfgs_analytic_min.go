@@ -191,11 +191,25 @@ func gulfRDLBFGSAnalyticMinimize(x0 [3]float64, lim GulfRDLBFGSAnalyticLimits) g
 	t, slope := float64(gulfRDLBFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                     // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                           // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                              // whether g and e at x come from gulfRDLBFGSAnalyticConfirmGradient
+	confirmed := false                                              // whether g and e at x come from gulfRDLBFGSAnalyticConfirmGradient or settle
 	stalled := false                                                // whether the run can make no more progress at x
 	retried := -1                                                   // the iteration whose stall was retried with recalibrated differences
+	verify := gulfRDLBFGSAnalyticVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != gulfRDLBFGSAnalyticVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see gulfRDLBFGSAnalyticConfirmGradient and settle).
+			calls, ok := gulfRDLBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, verify == gulfRDLBFGSAnalyticVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(GulfRDLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !gulfRDLBFGSAnalyticFiniteVec(&g) {
+				return best.ending(GulfRDLBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = gulfRDLBFGSAnalyticVerifyNothing, true
+		case !confirmed:
 			gulfRDLBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := gulfRDLBFGSAnalyticGradientMeasure(&g, &e, &x, fx)
@@ -213,17 +227,7 @@ func gulfRDLBFGSAnalyticMinimize(x0 [3]float64, lim GulfRDLBFGSAnalyticLimits) g
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := gulfRDLBFGSAnalyticConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(GulfRDLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !gulfRDLBFGSAnalyticFiniteVec(&g) {
-				return best.ending(GulfRDLBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = gulfRDLBFGSAnalyticVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -241,15 +245,7 @@ func gulfRDLBFGSAnalyticMinimize(x0 [3]float64, lim GulfRDLBFGSAnalyticLimits) g
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if gulfRDLBFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				calls, ok := gulfRDLBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(GulfRDLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !gulfRDLBFGSAnalyticFiniteVec(&g) {
-					return best.ending(GulfRDLBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = gulfRDLBFGSAnalyticVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -290,15 +286,7 @@ func gulfRDLBFGSAnalyticMinimize(x0 [3]float64, lim GulfRDLBFGSAnalyticLimits) g
 			case found.rising:
 				end = GulfRDLBFGSAnalyticNoDecrease
 			case found.end == gulfRDLBFGSAnalyticSearchTiny && canSettle:
-				calls, ok := gulfRDLBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(GulfRDLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !gulfRDLBFGSAnalyticFiniteVec(&g) {
-					return best.ending(GulfRDLBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = gulfRDLBFGSAnalyticVerifyStall, true
 				continue
 			case found.end == gulfRDLBFGSAnalyticSearchTiny:
 				end = GulfRDLBFGSAnalyticStalled
@@ -516,51 +504,30 @@ func gulfRDLBFGSAnalyticCurvatureSafe(s, y *[3]float64) bool {
 	return sy > 0 && (sy/gulfRDLBFGSAnalyticDot(s, s))*(sy/gulfRDLBFGSAnalyticDot(y, y)) > gulfRDLBFGSAnalyticUnitRoundoff
 }
 
-// gulfRDLBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func gulfRDLBFGSAnalyticGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *gulfRDLBFGSAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	gulfRDLBFGSAnalyticVerifyNothing = iota
+	gulfRDLBFGSAnalyticVerifyPass    // a difference gradient passed the test
+	gulfRDLBFGSAnalyticVerifyStall   // no step makes progress
+)
 
-// gulfRDLBFGSAnalyticGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func gulfRDLBFGSAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
-	scale := gulfRDLBFGSAnalyticLarger(gulfRDLBFGSAnalyticAbs(fx), 1)
-	for i := range g {
-		w := gulfRDLBFGSAnalyticLarger(gulfRDLBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = gulfRDLBFGSAnalyticLarger(measure, (gulfRDLBFGSAnalyticAbs(g[i])+e[i])*w)
-		floor = gulfRDLBFGSAnalyticLarger(floor, e[i]*w)
+// gulfRDLBFGSAnalyticSettle prepares a verdict at x: with differences it confirms the
+// gradient (gulfRDLBFGSAnalyticConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (gulfRDLBFGSAnalyticRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func gulfRDLBFGSAnalyticSettle(x *[3]float64, fx float64, g, e *[3]float64, diffs *gulfRDLBFGSAnalyticDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if gulfRDLBFGSAnalyticDerivativeCost > 0 {
+		spent, ok := gulfRDLBFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// gulfRDLBFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func gulfRDLBFGSAnalyticLarger(a, b float64) float64 {
-	if a > b || a != a {
-		return a
+	if stall {
+		gulfRDLBFGSAnalyticRoundingFloor(x, g, e, diffs)
 	}
-	return b
-}
-
-// gulfRDLBFGSAnalyticAbs returns |v|.
-func gulfRDLBFGSAnalyticAbs(v float64) float64 {
-	if v < 0 {
-		return -v
-	}
-	return v
+	return calls, true
 }
 
 // gulfRDLBFGSAnalyticConfirmGradient recomputes a difference gradient at x before the run is
@@ -593,33 +560,20 @@ func gulfRDLBFGSAnalyticConfirmGradient(x *[3]float64, fx float64, g, e *[3]floa
 	return calls + 2*gulfRDLBFGSAnalyticDerivativeCost, true
 }
 
-// gulfRDLBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func gulfRDLBFGSAnalyticStepWithin(s, x *[3]float64, tol float64) bool {
-	for i := range s {
-		if !(gulfRDLBFGSAnalyticAbs(s[i]) <= tol*(gulfRDLBFGSAnalyticAbs(x[i])+1)) {
-			return false
-		}
+// gulfRDLBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func gulfRDLBFGSAnalyticGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *gulfRDLBFGSAnalyticDifferences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// gulfRDLBFGSAnalyticSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (gulfRDLBFGSAnalyticConfirmGradient), then it adds to each error
-// bound the rounding floor of x (gulfRDLBFGSAnalyticRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func gulfRDLBFGSAnalyticSettle(x *[3]float64, fx float64, g, e *[3]float64, diffs *gulfRDLBFGSAnalyticDifferences, budget int) (int, bool) {
-	calls := 0
-	if gulfRDLBFGSAnalyticDerivativeCost > 0 {
-		spent, ok := gulfRDLBFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// gulfRDLBFGSAnalyticAbs returns |v|.
+func gulfRDLBFGSAnalyticAbs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	gulfRDLBFGSAnalyticRoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // gulfRDLBFGSAnalyticRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -662,6 +616,49 @@ func gulfRDLBFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
 // gulfRDLBFGSAnalyticSquareRoot returns √v.
 func gulfRDLBFGSAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// gulfRDLBFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func gulfRDLBFGSAnalyticLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// gulfRDLBFGSAnalyticGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func gulfRDLBFGSAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
+	scale := gulfRDLBFGSAnalyticLarger(gulfRDLBFGSAnalyticAbs(fx), 1)
+	for i := range g {
+		w := gulfRDLBFGSAnalyticLarger(gulfRDLBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = gulfRDLBFGSAnalyticLarger(measure, (gulfRDLBFGSAnalyticAbs(g[i])+e[i])*w)
+		floor = gulfRDLBFGSAnalyticLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// gulfRDLBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func gulfRDLBFGSAnalyticStepWithin(s, x *[3]float64, tol float64) bool {
+	for i := range s {
+		if !(gulfRDLBFGSAnalyticAbs(s[i]) <= tol*(gulfRDLBFGSAnalyticAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // gulfRDLBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the

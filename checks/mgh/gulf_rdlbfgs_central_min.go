@@ -191,11 +191,25 @@ func gulfRDLBFGSCentralMinimize(x0 [3]float64, lim GulfRDLBFGSCentralLimits) gul
 	t, slope := float64(gulfRDLBFGSCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                    // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                          // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                             // whether g and e at x come from gulfRDLBFGSCentralConfirmGradient
+	confirmed := false                                             // whether g and e at x come from gulfRDLBFGSCentralConfirmGradient or settle
 	stalled := false                                               // whether the run can make no more progress at x
 	retried := -1                                                  // the iteration whose stall was retried with recalibrated differences
+	verify := gulfRDLBFGSCentralVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != gulfRDLBFGSCentralVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see gulfRDLBFGSCentralConfirmGradient and settle).
+			calls, ok := gulfRDLBFGSCentralSettle(&x, fx, &g, &e, &diffs, verify == gulfRDLBFGSCentralVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(GulfRDLBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !gulfRDLBFGSCentralFiniteVec(&g) {
+				return best.ending(GulfRDLBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = gulfRDLBFGSCentralVerifyNothing, true
+		case !confirmed:
 			gulfRDLBFGSCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := gulfRDLBFGSCentralGradientMeasure(&g, &e, &x, fx)
@@ -213,17 +227,7 @@ func gulfRDLBFGSCentralMinimize(x0 [3]float64, lim GulfRDLBFGSCentralLimits) gul
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := gulfRDLBFGSCentralConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(GulfRDLBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !gulfRDLBFGSCentralFiniteVec(&g) {
-				return best.ending(GulfRDLBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = gulfRDLBFGSCentralVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -241,15 +245,7 @@ func gulfRDLBFGSCentralMinimize(x0 [3]float64, lim GulfRDLBFGSCentralLimits) gul
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if gulfRDLBFGSCentralStepWithin(&s, &x, lim.Step) {
-				calls, ok := gulfRDLBFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(GulfRDLBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !gulfRDLBFGSCentralFiniteVec(&g) {
-					return best.ending(GulfRDLBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = gulfRDLBFGSCentralVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -290,15 +286,7 @@ func gulfRDLBFGSCentralMinimize(x0 [3]float64, lim GulfRDLBFGSCentralLimits) gul
 			case found.rising:
 				end = GulfRDLBFGSCentralNoDecrease
 			case found.end == gulfRDLBFGSCentralSearchTiny && canSettle:
-				calls, ok := gulfRDLBFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(GulfRDLBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !gulfRDLBFGSCentralFiniteVec(&g) {
-					return best.ending(GulfRDLBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = gulfRDLBFGSCentralVerifyStall, true
 				continue
 			case found.end == gulfRDLBFGSCentralSearchTiny:
 				end = GulfRDLBFGSCentralStalled
@@ -659,37 +647,30 @@ func gulfRDLBFGSCentralCurvatureSafe(s, y *[3]float64) bool {
 	return sy > 0 && (sy/gulfRDLBFGSCentralDot(s, s))*(sy/gulfRDLBFGSCentralDot(y, y)) > gulfRDLBFGSCentralUnitRoundoff
 }
 
-// gulfRDLBFGSCentralGradientError bounds each central difference's error by twice its
-// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
-// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
-// in forwardError).
-func gulfRDLBFGSCentralGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *gulfRDLBFGSCentralDifferences) {
-	noise := gulfRDLBFGSCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h := diffs.ratio[i] * gulfRDLBFGSCentralLarger(1, gulfRDLBFGSCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	gulfRDLBFGSCentralVerifyNothing = iota
+	gulfRDLBFGSCentralVerifyPass    // a difference gradient passed the test
+	gulfRDLBFGSCentralVerifyStall   // no step makes progress
+)
 
-// gulfRDLBFGSCentralGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func gulfRDLBFGSCentralGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
-	scale := gulfRDLBFGSCentralLarger(gulfRDLBFGSCentralAbs(fx), 1)
-	for i := range g {
-		w := gulfRDLBFGSCentralLarger(gulfRDLBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = gulfRDLBFGSCentralLarger(measure, (gulfRDLBFGSCentralAbs(g[i])+e[i])*w)
-		floor = gulfRDLBFGSCentralLarger(floor, e[i]*w)
+// gulfRDLBFGSCentralSettle prepares a verdict at x: with differences it confirms the
+// gradient (gulfRDLBFGSCentralConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (gulfRDLBFGSCentralRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func gulfRDLBFGSCentralSettle(x *[3]float64, fx float64, g, e *[3]float64, diffs *gulfRDLBFGSCentralDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if gulfRDLBFGSCentralDerivativeCost > 0 {
+		spent, ok := gulfRDLBFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
+	if stall {
+		gulfRDLBFGSCentralRoundingFloor(x, g, e, diffs)
+	}
+	return calls, true
 }
 
 // gulfRDLBFGSCentralConfirmGradient recomputes a difference gradient at x before the run is
@@ -722,33 +703,16 @@ func gulfRDLBFGSCentralConfirmGradient(x *[3]float64, fx float64, g, e *[3]float
 	return calls + 2*gulfRDLBFGSCentralDerivativeCost, true
 }
 
-// gulfRDLBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func gulfRDLBFGSCentralStepWithin(s, x *[3]float64, tol float64) bool {
-	for i := range s {
-		if !(gulfRDLBFGSCentralAbs(s[i]) <= tol*(gulfRDLBFGSCentralAbs(x[i])+1)) {
-			return false
-		}
+// gulfRDLBFGSCentralGradientError bounds each central difference's error by twice its
+// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
+// in forwardError).
+func gulfRDLBFGSCentralGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *gulfRDLBFGSCentralDifferences) {
+	noise := gulfRDLBFGSCentralNoiseLevel(x, fx, g)
+	for i := range e {
+		h := diffs.ratio[i] * gulfRDLBFGSCentralLarger(1, gulfRDLBFGSCentralAbs(x[i]))
+		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
 	}
-	return true
-}
-
-// gulfRDLBFGSCentralSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (gulfRDLBFGSCentralConfirmGradient), then it adds to each error
-// bound the rounding floor of x (gulfRDLBFGSCentralRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func gulfRDLBFGSCentralSettle(x *[3]float64, fx float64, g, e *[3]float64, diffs *gulfRDLBFGSCentralDifferences, budget int) (int, bool) {
-	calls := 0
-	if gulfRDLBFGSCentralDerivativeCost > 0 {
-		spent, ok := gulfRDLBFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
-	}
-	gulfRDLBFGSCentralRoundingFloor(x, g, e, diffs)
-	return calls, true
 }
 
 // gulfRDLBFGSCentralRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -769,6 +733,39 @@ func gulfRDLBFGSCentralRoundingFloor(x, g, e *[3]float64, diffs *gulfRDLBFGSCent
 // calibration, which gulfRDLBFGSCentralConfirmGradient has just made at x.
 func gulfRDLBFGSCentralDiagonalCurvature(x, g *[3]float64, diffs *gulfRDLBFGSCentralDifferences, h *[3]float64) {
 	*h = diffs.second
+}
+
+// gulfRDLBFGSCentralGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func gulfRDLBFGSCentralGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
+	scale := gulfRDLBFGSCentralLarger(gulfRDLBFGSCentralAbs(fx), 1)
+	for i := range g {
+		w := gulfRDLBFGSCentralLarger(gulfRDLBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = gulfRDLBFGSCentralLarger(measure, (gulfRDLBFGSCentralAbs(g[i])+e[i])*w)
+		floor = gulfRDLBFGSCentralLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// gulfRDLBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func gulfRDLBFGSCentralStepWithin(s, x *[3]float64, tol float64) bool {
+	for i := range s {
+		if !(gulfRDLBFGSCentralAbs(s[i]) <= tol*(gulfRDLBFGSCentralAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // gulfRDLBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the

@@ -190,11 +190,25 @@ func helicalValleyBFGSAnalyticMinimize(x0 [3]float64, lim HelicalValleyBFGSAnaly
 	t, slope := float64(helicalValleyBFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                           // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                                 // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                    // whether g and e at x come from helicalValleyBFGSAnalyticConfirmGradient
+	confirmed := false                                                    // whether g and e at x come from helicalValleyBFGSAnalyticConfirmGradient or settle
 	stalled := false                                                      // whether the run can make no more progress at x
 	retried := -1                                                         // the iteration whose stall was retried with recalibrated differences
+	verify := helicalValleyBFGSAnalyticVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != helicalValleyBFGSAnalyticVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see helicalValleyBFGSAnalyticConfirmGradient and settle).
+			calls, ok := helicalValleyBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, verify == helicalValleyBFGSAnalyticVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(HelicalValleyBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !helicalValleyBFGSAnalyticFiniteVec(&g) {
+				return best.ending(HelicalValleyBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = helicalValleyBFGSAnalyticVerifyNothing, true
+		case !confirmed:
 			helicalValleyBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := helicalValleyBFGSAnalyticGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func helicalValleyBFGSAnalyticMinimize(x0 [3]float64, lim HelicalValleyBFGSAnaly
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := helicalValleyBFGSAnalyticConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(HelicalValleyBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !helicalValleyBFGSAnalyticFiniteVec(&g) {
-				return best.ending(HelicalValleyBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = helicalValleyBFGSAnalyticVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func helicalValleyBFGSAnalyticMinimize(x0 [3]float64, lim HelicalValleyBFGSAnaly
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if helicalValleyBFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				calls, ok := helicalValleyBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(HelicalValleyBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !helicalValleyBFGSAnalyticFiniteVec(&g) {
-					return best.ending(HelicalValleyBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = helicalValleyBFGSAnalyticVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func helicalValleyBFGSAnalyticMinimize(x0 [3]float64, lim HelicalValleyBFGSAnaly
 			case found.rising:
 				end = HelicalValleyBFGSAnalyticNoDecrease
 			case found.end == helicalValleyBFGSAnalyticSearchTiny && canSettle:
-				calls, ok := helicalValleyBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(HelicalValleyBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !helicalValleyBFGSAnalyticFiniteVec(&g) {
-					return best.ending(HelicalValleyBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = helicalValleyBFGSAnalyticVerifyStall, true
 				continue
 			case found.end == helicalValleyBFGSAnalyticSearchTiny:
 				end = HelicalValleyBFGSAnalyticStalled
@@ -490,51 +478,30 @@ func helicalValleyBFGSAnalyticCurvatureSafe(s, y *[3]float64) bool {
 	return sy > 0 && (sy/helicalValleyBFGSAnalyticDot(s, s))*(sy/helicalValleyBFGSAnalyticDot(y, y)) > helicalValleyBFGSAnalyticUnitRoundoff
 }
 
-// helicalValleyBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func helicalValleyBFGSAnalyticGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *helicalValleyBFGSAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	helicalValleyBFGSAnalyticVerifyNothing = iota
+	helicalValleyBFGSAnalyticVerifyPass    // a difference gradient passed the test
+	helicalValleyBFGSAnalyticVerifyStall   // no step makes progress
+)
 
-// helicalValleyBFGSAnalyticGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func helicalValleyBFGSAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
-	scale := helicalValleyBFGSAnalyticLarger(helicalValleyBFGSAnalyticAbs(fx), 1)
-	for i := range g {
-		w := helicalValleyBFGSAnalyticLarger(helicalValleyBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = helicalValleyBFGSAnalyticLarger(measure, (helicalValleyBFGSAnalyticAbs(g[i])+e[i])*w)
-		floor = helicalValleyBFGSAnalyticLarger(floor, e[i]*w)
+// helicalValleyBFGSAnalyticSettle prepares a verdict at x: with differences it confirms the
+// gradient (helicalValleyBFGSAnalyticConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (helicalValleyBFGSAnalyticRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func helicalValleyBFGSAnalyticSettle(x *[3]float64, fx float64, g, e *[3]float64, diffs *helicalValleyBFGSAnalyticDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if helicalValleyBFGSAnalyticDerivativeCost > 0 {
+		spent, ok := helicalValleyBFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// helicalValleyBFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func helicalValleyBFGSAnalyticLarger(a, b float64) float64 {
-	if a > b || a != a {
-		return a
+	if stall {
+		helicalValleyBFGSAnalyticRoundingFloor(x, g, e, diffs)
 	}
-	return b
-}
-
-// helicalValleyBFGSAnalyticAbs returns |v|.
-func helicalValleyBFGSAnalyticAbs(v float64) float64 {
-	if v < 0 {
-		return -v
-	}
-	return v
+	return calls, true
 }
 
 // helicalValleyBFGSAnalyticConfirmGradient recomputes a difference gradient at x before the run is
@@ -567,33 +534,20 @@ func helicalValleyBFGSAnalyticConfirmGradient(x *[3]float64, fx float64, g, e *[
 	return calls + 2*helicalValleyBFGSAnalyticDerivativeCost, true
 }
 
-// helicalValleyBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func helicalValleyBFGSAnalyticStepWithin(s, x *[3]float64, tol float64) bool {
-	for i := range s {
-		if !(helicalValleyBFGSAnalyticAbs(s[i]) <= tol*(helicalValleyBFGSAnalyticAbs(x[i])+1)) {
-			return false
-		}
+// helicalValleyBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func helicalValleyBFGSAnalyticGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *helicalValleyBFGSAnalyticDifferences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// helicalValleyBFGSAnalyticSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (helicalValleyBFGSAnalyticConfirmGradient), then it adds to each error
-// bound the rounding floor of x (helicalValleyBFGSAnalyticRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func helicalValleyBFGSAnalyticSettle(x *[3]float64, fx float64, g, e *[3]float64, diffs *helicalValleyBFGSAnalyticDifferences, budget int) (int, bool) {
-	calls := 0
-	if helicalValleyBFGSAnalyticDerivativeCost > 0 {
-		spent, ok := helicalValleyBFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// helicalValleyBFGSAnalyticAbs returns |v|.
+func helicalValleyBFGSAnalyticAbs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	helicalValleyBFGSAnalyticRoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // helicalValleyBFGSAnalyticRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -636,6 +590,49 @@ func helicalValleyBFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
 // helicalValleyBFGSAnalyticSquareRoot returns √v.
 func helicalValleyBFGSAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// helicalValleyBFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func helicalValleyBFGSAnalyticLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// helicalValleyBFGSAnalyticGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func helicalValleyBFGSAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
+	scale := helicalValleyBFGSAnalyticLarger(helicalValleyBFGSAnalyticAbs(fx), 1)
+	for i := range g {
+		w := helicalValleyBFGSAnalyticLarger(helicalValleyBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = helicalValleyBFGSAnalyticLarger(measure, (helicalValleyBFGSAnalyticAbs(g[i])+e[i])*w)
+		floor = helicalValleyBFGSAnalyticLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// helicalValleyBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func helicalValleyBFGSAnalyticStepWithin(s, x *[3]float64, tol float64) bool {
+	for i := range s {
+		if !(helicalValleyBFGSAnalyticAbs(s[i]) <= tol*(helicalValleyBFGSAnalyticAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // helicalValleyBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the

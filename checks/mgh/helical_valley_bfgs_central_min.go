@@ -190,11 +190,25 @@ func helicalValleyBFGSCentralMinimize(x0 [3]float64, lim HelicalValleyBFGSCentra
 	t, slope := float64(helicalValleyBFGSCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                          // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                                // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                   // whether g and e at x come from helicalValleyBFGSCentralConfirmGradient
+	confirmed := false                                                   // whether g and e at x come from helicalValleyBFGSCentralConfirmGradient or settle
 	stalled := false                                                     // whether the run can make no more progress at x
 	retried := -1                                                        // the iteration whose stall was retried with recalibrated differences
+	verify := helicalValleyBFGSCentralVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != helicalValleyBFGSCentralVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see helicalValleyBFGSCentralConfirmGradient and settle).
+			calls, ok := helicalValleyBFGSCentralSettle(&x, fx, &g, &e, &diffs, verify == helicalValleyBFGSCentralVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(HelicalValleyBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !helicalValleyBFGSCentralFiniteVec(&g) {
+				return best.ending(HelicalValleyBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = helicalValleyBFGSCentralVerifyNothing, true
+		case !confirmed:
 			helicalValleyBFGSCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := helicalValleyBFGSCentralGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func helicalValleyBFGSCentralMinimize(x0 [3]float64, lim HelicalValleyBFGSCentra
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := helicalValleyBFGSCentralConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(HelicalValleyBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !helicalValleyBFGSCentralFiniteVec(&g) {
-				return best.ending(HelicalValleyBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = helicalValleyBFGSCentralVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func helicalValleyBFGSCentralMinimize(x0 [3]float64, lim HelicalValleyBFGSCentra
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if helicalValleyBFGSCentralStepWithin(&s, &x, lim.Step) {
-				calls, ok := helicalValleyBFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(HelicalValleyBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !helicalValleyBFGSCentralFiniteVec(&g) {
-					return best.ending(HelicalValleyBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = helicalValleyBFGSCentralVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func helicalValleyBFGSCentralMinimize(x0 [3]float64, lim HelicalValleyBFGSCentra
 			case found.rising:
 				end = HelicalValleyBFGSCentralNoDecrease
 			case found.end == helicalValleyBFGSCentralSearchTiny && canSettle:
-				calls, ok := helicalValleyBFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(HelicalValleyBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !helicalValleyBFGSCentralFiniteVec(&g) {
-					return best.ending(HelicalValleyBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = helicalValleyBFGSCentralVerifyStall, true
 				continue
 			case found.end == helicalValleyBFGSCentralSearchTiny:
 				end = HelicalValleyBFGSCentralStalled
@@ -633,37 +621,30 @@ func helicalValleyBFGSCentralCurvatureSafe(s, y *[3]float64) bool {
 	return sy > 0 && (sy/helicalValleyBFGSCentralDot(s, s))*(sy/helicalValleyBFGSCentralDot(y, y)) > helicalValleyBFGSCentralUnitRoundoff
 }
 
-// helicalValleyBFGSCentralGradientError bounds each central difference's error by twice its
-// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
-// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
-// in forwardError).
-func helicalValleyBFGSCentralGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *helicalValleyBFGSCentralDifferences) {
-	noise := helicalValleyBFGSCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h := diffs.ratio[i] * helicalValleyBFGSCentralLarger(1, helicalValleyBFGSCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	helicalValleyBFGSCentralVerifyNothing = iota
+	helicalValleyBFGSCentralVerifyPass    // a difference gradient passed the test
+	helicalValleyBFGSCentralVerifyStall   // no step makes progress
+)
 
-// helicalValleyBFGSCentralGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func helicalValleyBFGSCentralGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
-	scale := helicalValleyBFGSCentralLarger(helicalValleyBFGSCentralAbs(fx), 1)
-	for i := range g {
-		w := helicalValleyBFGSCentralLarger(helicalValleyBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = helicalValleyBFGSCentralLarger(measure, (helicalValleyBFGSCentralAbs(g[i])+e[i])*w)
-		floor = helicalValleyBFGSCentralLarger(floor, e[i]*w)
+// helicalValleyBFGSCentralSettle prepares a verdict at x: with differences it confirms the
+// gradient (helicalValleyBFGSCentralConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (helicalValleyBFGSCentralRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func helicalValleyBFGSCentralSettle(x *[3]float64, fx float64, g, e *[3]float64, diffs *helicalValleyBFGSCentralDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if helicalValleyBFGSCentralDerivativeCost > 0 {
+		spent, ok := helicalValleyBFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
+	if stall {
+		helicalValleyBFGSCentralRoundingFloor(x, g, e, diffs)
+	}
+	return calls, true
 }
 
 // helicalValleyBFGSCentralConfirmGradient recomputes a difference gradient at x before the run is
@@ -696,33 +677,16 @@ func helicalValleyBFGSCentralConfirmGradient(x *[3]float64, fx float64, g, e *[3
 	return calls + 2*helicalValleyBFGSCentralDerivativeCost, true
 }
 
-// helicalValleyBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func helicalValleyBFGSCentralStepWithin(s, x *[3]float64, tol float64) bool {
-	for i := range s {
-		if !(helicalValleyBFGSCentralAbs(s[i]) <= tol*(helicalValleyBFGSCentralAbs(x[i])+1)) {
-			return false
-		}
+// helicalValleyBFGSCentralGradientError bounds each central difference's error by twice its
+// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
+// in forwardError).
+func helicalValleyBFGSCentralGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *helicalValleyBFGSCentralDifferences) {
+	noise := helicalValleyBFGSCentralNoiseLevel(x, fx, g)
+	for i := range e {
+		h := diffs.ratio[i] * helicalValleyBFGSCentralLarger(1, helicalValleyBFGSCentralAbs(x[i]))
+		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
 	}
-	return true
-}
-
-// helicalValleyBFGSCentralSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (helicalValleyBFGSCentralConfirmGradient), then it adds to each error
-// bound the rounding floor of x (helicalValleyBFGSCentralRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func helicalValleyBFGSCentralSettle(x *[3]float64, fx float64, g, e *[3]float64, diffs *helicalValleyBFGSCentralDifferences, budget int) (int, bool) {
-	calls := 0
-	if helicalValleyBFGSCentralDerivativeCost > 0 {
-		spent, ok := helicalValleyBFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
-	}
-	helicalValleyBFGSCentralRoundingFloor(x, g, e, diffs)
-	return calls, true
 }
 
 // helicalValleyBFGSCentralRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -743,6 +707,39 @@ func helicalValleyBFGSCentralRoundingFloor(x, g, e *[3]float64, diffs *helicalVa
 // calibration, which helicalValleyBFGSCentralConfirmGradient has just made at x.
 func helicalValleyBFGSCentralDiagonalCurvature(x, g *[3]float64, diffs *helicalValleyBFGSCentralDifferences, h *[3]float64) {
 	*h = diffs.second
+}
+
+// helicalValleyBFGSCentralGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func helicalValleyBFGSCentralGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
+	scale := helicalValleyBFGSCentralLarger(helicalValleyBFGSCentralAbs(fx), 1)
+	for i := range g {
+		w := helicalValleyBFGSCentralLarger(helicalValleyBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = helicalValleyBFGSCentralLarger(measure, (helicalValleyBFGSCentralAbs(g[i])+e[i])*w)
+		floor = helicalValleyBFGSCentralLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// helicalValleyBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func helicalValleyBFGSCentralStepWithin(s, x *[3]float64, tol float64) bool {
+	for i := range s {
+		if !(helicalValleyBFGSCentralAbs(s[i]) <= tol*(helicalValleyBFGSCentralAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // helicalValleyBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the

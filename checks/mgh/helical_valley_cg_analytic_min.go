@@ -190,11 +190,25 @@ func helicalValleyCGAnalyticMinimize(x0 [3]float64, lim HelicalValleyCGAnalyticL
 	t, slope := float64(helicalValleyCGAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                         // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                               // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                  // whether g and e at x come from helicalValleyCGAnalyticConfirmGradient
+	confirmed := false                                                  // whether g and e at x come from helicalValleyCGAnalyticConfirmGradient or settle
 	stalled := false                                                    // whether the run can make no more progress at x
 	retried := -1                                                       // the iteration whose stall was retried with recalibrated differences
+	verify := helicalValleyCGAnalyticVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != helicalValleyCGAnalyticVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see helicalValleyCGAnalyticConfirmGradient and settle).
+			calls, ok := helicalValleyCGAnalyticSettle(&x, fx, &g, &e, &diffs, verify == helicalValleyCGAnalyticVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(HelicalValleyCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !helicalValleyCGAnalyticFiniteVec(&g) {
+				return best.ending(HelicalValleyCGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = helicalValleyCGAnalyticVerifyNothing, true
+		case !confirmed:
 			helicalValleyCGAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := helicalValleyCGAnalyticGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func helicalValleyCGAnalyticMinimize(x0 [3]float64, lim HelicalValleyCGAnalyticL
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := helicalValleyCGAnalyticConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(HelicalValleyCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !helicalValleyCGAnalyticFiniteVec(&g) {
-				return best.ending(HelicalValleyCGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = helicalValleyCGAnalyticVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func helicalValleyCGAnalyticMinimize(x0 [3]float64, lim HelicalValleyCGAnalyticL
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if helicalValleyCGAnalyticStepWithin(&s, &x, lim.Step) {
-				calls, ok := helicalValleyCGAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(HelicalValleyCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !helicalValleyCGAnalyticFiniteVec(&g) {
-					return best.ending(HelicalValleyCGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = helicalValleyCGAnalyticVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func helicalValleyCGAnalyticMinimize(x0 [3]float64, lim HelicalValleyCGAnalyticL
 			case found.rising:
 				end = HelicalValleyCGAnalyticNoDecrease
 			case found.end == helicalValleyCGAnalyticSearchTiny && canSettle:
-				calls, ok := helicalValleyCGAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(HelicalValleyCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !helicalValleyCGAnalyticFiniteVec(&g) {
-					return best.ending(HelicalValleyCGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = helicalValleyCGAnalyticVerifyStall, true
 				continue
 			case found.end == helicalValleyCGAnalyticSearchTiny:
 				end = HelicalValleyCGAnalyticStalled
@@ -482,41 +470,30 @@ func helicalValleyCGAnalyticScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
-// helicalValleyCGAnalyticGradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func helicalValleyCGAnalyticGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *helicalValleyCGAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	helicalValleyCGAnalyticVerifyNothing = iota
+	helicalValleyCGAnalyticVerifyPass    // a difference gradient passed the test
+	helicalValleyCGAnalyticVerifyStall   // no step makes progress
+)
 
-// helicalValleyCGAnalyticGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func helicalValleyCGAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
-	scale := helicalValleyCGAnalyticLarger(helicalValleyCGAnalyticAbs(fx), 1)
-	for i := range g {
-		w := helicalValleyCGAnalyticLarger(helicalValleyCGAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = helicalValleyCGAnalyticLarger(measure, (helicalValleyCGAnalyticAbs(g[i])+e[i])*w)
-		floor = helicalValleyCGAnalyticLarger(floor, e[i]*w)
+// helicalValleyCGAnalyticSettle prepares a verdict at x: with differences it confirms the
+// gradient (helicalValleyCGAnalyticConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (helicalValleyCGAnalyticRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func helicalValleyCGAnalyticSettle(x *[3]float64, fx float64, g, e *[3]float64, diffs *helicalValleyCGAnalyticDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if helicalValleyCGAnalyticDerivativeCost > 0 {
+		spent, ok := helicalValleyCGAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// helicalValleyCGAnalyticAbs returns |v|.
-func helicalValleyCGAnalyticAbs(v float64) float64 {
-	if v < 0 {
-		return -v
+	if stall {
+		helicalValleyCGAnalyticRoundingFloor(x, g, e, diffs)
 	}
-	return v
+	return calls, true
 }
 
 // helicalValleyCGAnalyticConfirmGradient recomputes a difference gradient at x before the run is
@@ -549,33 +526,20 @@ func helicalValleyCGAnalyticConfirmGradient(x *[3]float64, fx float64, g, e *[3]
 	return calls + 2*helicalValleyCGAnalyticDerivativeCost, true
 }
 
-// helicalValleyCGAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func helicalValleyCGAnalyticStepWithin(s, x *[3]float64, tol float64) bool {
-	for i := range s {
-		if !(helicalValleyCGAnalyticAbs(s[i]) <= tol*(helicalValleyCGAnalyticAbs(x[i])+1)) {
-			return false
-		}
+// helicalValleyCGAnalyticGradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func helicalValleyCGAnalyticGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *helicalValleyCGAnalyticDifferences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// helicalValleyCGAnalyticSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (helicalValleyCGAnalyticConfirmGradient), then it adds to each error
-// bound the rounding floor of x (helicalValleyCGAnalyticRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func helicalValleyCGAnalyticSettle(x *[3]float64, fx float64, g, e *[3]float64, diffs *helicalValleyCGAnalyticDifferences, budget int) (int, bool) {
-	calls := 0
-	if helicalValleyCGAnalyticDerivativeCost > 0 {
-		spent, ok := helicalValleyCGAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// helicalValleyCGAnalyticAbs returns |v|.
+func helicalValleyCGAnalyticAbs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	helicalValleyCGAnalyticRoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // helicalValleyCGAnalyticRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -618,6 +582,39 @@ func helicalValleyCGAnalyticProbeStep(xi, h float64) (float64, float64) {
 // helicalValleyCGAnalyticSquareRoot returns √v.
 func helicalValleyCGAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// helicalValleyCGAnalyticGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func helicalValleyCGAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
+	scale := helicalValleyCGAnalyticLarger(helicalValleyCGAnalyticAbs(fx), 1)
+	for i := range g {
+		w := helicalValleyCGAnalyticLarger(helicalValleyCGAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = helicalValleyCGAnalyticLarger(measure, (helicalValleyCGAnalyticAbs(g[i])+e[i])*w)
+		floor = helicalValleyCGAnalyticLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// helicalValleyCGAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func helicalValleyCGAnalyticStepWithin(s, x *[3]float64, tol float64) bool {
+	for i := range s {
+		if !(helicalValleyCGAnalyticAbs(s[i]) <= tol*(helicalValleyCGAnalyticAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // helicalValleyCGAnalyticTinyStep returns the longest t for which the step t·d from x passes the

@@ -190,11 +190,25 @@ func helicalValleyCGCentralMinimize(x0 [3]float64, lim HelicalValleyCGCentralLim
 	t, slope := float64(helicalValleyCGCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                        // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                              // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                 // whether g and e at x come from helicalValleyCGCentralConfirmGradient
+	confirmed := false                                                 // whether g and e at x come from helicalValleyCGCentralConfirmGradient or settle
 	stalled := false                                                   // whether the run can make no more progress at x
 	retried := -1                                                      // the iteration whose stall was retried with recalibrated differences
+	verify := helicalValleyCGCentralVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != helicalValleyCGCentralVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see helicalValleyCGCentralConfirmGradient and settle).
+			calls, ok := helicalValleyCGCentralSettle(&x, fx, &g, &e, &diffs, verify == helicalValleyCGCentralVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(HelicalValleyCGCentralOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !helicalValleyCGCentralFiniteVec(&g) {
+				return best.ending(HelicalValleyCGCentralNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = helicalValleyCGCentralVerifyNothing, true
+		case !confirmed:
 			helicalValleyCGCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := helicalValleyCGCentralGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func helicalValleyCGCentralMinimize(x0 [3]float64, lim HelicalValleyCGCentralLim
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := helicalValleyCGCentralConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(HelicalValleyCGCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !helicalValleyCGCentralFiniteVec(&g) {
-				return best.ending(HelicalValleyCGCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = helicalValleyCGCentralVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func helicalValleyCGCentralMinimize(x0 [3]float64, lim HelicalValleyCGCentralLim
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if helicalValleyCGCentralStepWithin(&s, &x, lim.Step) {
-				calls, ok := helicalValleyCGCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(HelicalValleyCGCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !helicalValleyCGCentralFiniteVec(&g) {
-					return best.ending(HelicalValleyCGCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = helicalValleyCGCentralVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func helicalValleyCGCentralMinimize(x0 [3]float64, lim HelicalValleyCGCentralLim
 			case found.rising:
 				end = HelicalValleyCGCentralNoDecrease
 			case found.end == helicalValleyCGCentralSearchTiny && canSettle:
-				calls, ok := helicalValleyCGCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(HelicalValleyCGCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !helicalValleyCGCentralFiniteVec(&g) {
-					return best.ending(HelicalValleyCGCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = helicalValleyCGCentralVerifyStall, true
 				continue
 			case found.end == helicalValleyCGCentralSearchTiny:
 				end = HelicalValleyCGCentralStalled
@@ -615,37 +603,30 @@ func helicalValleyCGCentralScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
-// helicalValleyCGCentralGradientError bounds each central difference's error by twice its
-// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
-// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
-// in forwardError).
-func helicalValleyCGCentralGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *helicalValleyCGCentralDifferences) {
-	noise := helicalValleyCGCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h := diffs.ratio[i] * helicalValleyCGCentralLarger(1, helicalValleyCGCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	helicalValleyCGCentralVerifyNothing = iota
+	helicalValleyCGCentralVerifyPass    // a difference gradient passed the test
+	helicalValleyCGCentralVerifyStall   // no step makes progress
+)
 
-// helicalValleyCGCentralGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func helicalValleyCGCentralGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
-	scale := helicalValleyCGCentralLarger(helicalValleyCGCentralAbs(fx), 1)
-	for i := range g {
-		w := helicalValleyCGCentralLarger(helicalValleyCGCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = helicalValleyCGCentralLarger(measure, (helicalValleyCGCentralAbs(g[i])+e[i])*w)
-		floor = helicalValleyCGCentralLarger(floor, e[i]*w)
+// helicalValleyCGCentralSettle prepares a verdict at x: with differences it confirms the
+// gradient (helicalValleyCGCentralConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (helicalValleyCGCentralRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func helicalValleyCGCentralSettle(x *[3]float64, fx float64, g, e *[3]float64, diffs *helicalValleyCGCentralDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if helicalValleyCGCentralDerivativeCost > 0 {
+		spent, ok := helicalValleyCGCentralConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
+	if stall {
+		helicalValleyCGCentralRoundingFloor(x, g, e, diffs)
+	}
+	return calls, true
 }
 
 // helicalValleyCGCentralConfirmGradient recomputes a difference gradient at x before the run is
@@ -678,33 +659,16 @@ func helicalValleyCGCentralConfirmGradient(x *[3]float64, fx float64, g, e *[3]f
 	return calls + 2*helicalValleyCGCentralDerivativeCost, true
 }
 
-// helicalValleyCGCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func helicalValleyCGCentralStepWithin(s, x *[3]float64, tol float64) bool {
-	for i := range s {
-		if !(helicalValleyCGCentralAbs(s[i]) <= tol*(helicalValleyCGCentralAbs(x[i])+1)) {
-			return false
-		}
+// helicalValleyCGCentralGradientError bounds each central difference's error by twice its
+// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
+// in forwardError).
+func helicalValleyCGCentralGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *helicalValleyCGCentralDifferences) {
+	noise := helicalValleyCGCentralNoiseLevel(x, fx, g)
+	for i := range e {
+		h := diffs.ratio[i] * helicalValleyCGCentralLarger(1, helicalValleyCGCentralAbs(x[i]))
+		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
 	}
-	return true
-}
-
-// helicalValleyCGCentralSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (helicalValleyCGCentralConfirmGradient), then it adds to each error
-// bound the rounding floor of x (helicalValleyCGCentralRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func helicalValleyCGCentralSettle(x *[3]float64, fx float64, g, e *[3]float64, diffs *helicalValleyCGCentralDifferences, budget int) (int, bool) {
-	calls := 0
-	if helicalValleyCGCentralDerivativeCost > 0 {
-		spent, ok := helicalValleyCGCentralConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
-	}
-	helicalValleyCGCentralRoundingFloor(x, g, e, diffs)
-	return calls, true
 }
 
 // helicalValleyCGCentralRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -725,6 +689,39 @@ func helicalValleyCGCentralRoundingFloor(x, g, e *[3]float64, diffs *helicalVall
 // calibration, which helicalValleyCGCentralConfirmGradient has just made at x.
 func helicalValleyCGCentralDiagonalCurvature(x, g *[3]float64, diffs *helicalValleyCGCentralDifferences, h *[3]float64) {
 	*h = diffs.second
+}
+
+// helicalValleyCGCentralGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func helicalValleyCGCentralGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
+	scale := helicalValleyCGCentralLarger(helicalValleyCGCentralAbs(fx), 1)
+	for i := range g {
+		w := helicalValleyCGCentralLarger(helicalValleyCGCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = helicalValleyCGCentralLarger(measure, (helicalValleyCGCentralAbs(g[i])+e[i])*w)
+		floor = helicalValleyCGCentralLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// helicalValleyCGCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func helicalValleyCGCentralStepWithin(s, x *[3]float64, tol float64) bool {
+	for i := range s {
+		if !(helicalValleyCGCentralAbs(s[i]) <= tol*(helicalValleyCGCentralAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // helicalValleyCGCentralTinyStep returns the longest t for which the step t·d from x passes the

@@ -191,11 +191,25 @@ func helicalValleyLBFGSAnalyticMinimize(x0 [3]float64, lim HelicalValleyLBFGSAna
 	t, slope := float64(helicalValleyLBFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                            // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                                  // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                     // whether g and e at x come from helicalValleyLBFGSAnalyticConfirmGradient
+	confirmed := false                                                     // whether g and e at x come from helicalValleyLBFGSAnalyticConfirmGradient or settle
 	stalled := false                                                       // whether the run can make no more progress at x
 	retried := -1                                                          // the iteration whose stall was retried with recalibrated differences
+	verify := helicalValleyLBFGSAnalyticVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != helicalValleyLBFGSAnalyticVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see helicalValleyLBFGSAnalyticConfirmGradient and settle).
+			calls, ok := helicalValleyLBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, verify == helicalValleyLBFGSAnalyticVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(HelicalValleyLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !helicalValleyLBFGSAnalyticFiniteVec(&g) {
+				return best.ending(HelicalValleyLBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = helicalValleyLBFGSAnalyticVerifyNothing, true
+		case !confirmed:
 			helicalValleyLBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := helicalValleyLBFGSAnalyticGradientMeasure(&g, &e, &x, fx)
@@ -213,17 +227,7 @@ func helicalValleyLBFGSAnalyticMinimize(x0 [3]float64, lim HelicalValleyLBFGSAna
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := helicalValleyLBFGSAnalyticConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(HelicalValleyLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !helicalValleyLBFGSAnalyticFiniteVec(&g) {
-				return best.ending(HelicalValleyLBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = helicalValleyLBFGSAnalyticVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -241,15 +245,7 @@ func helicalValleyLBFGSAnalyticMinimize(x0 [3]float64, lim HelicalValleyLBFGSAna
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if helicalValleyLBFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				calls, ok := helicalValleyLBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(HelicalValleyLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !helicalValleyLBFGSAnalyticFiniteVec(&g) {
-					return best.ending(HelicalValleyLBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = helicalValleyLBFGSAnalyticVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -290,15 +286,7 @@ func helicalValleyLBFGSAnalyticMinimize(x0 [3]float64, lim HelicalValleyLBFGSAna
 			case found.rising:
 				end = HelicalValleyLBFGSAnalyticNoDecrease
 			case found.end == helicalValleyLBFGSAnalyticSearchTiny && canSettle:
-				calls, ok := helicalValleyLBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(HelicalValleyLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !helicalValleyLBFGSAnalyticFiniteVec(&g) {
-					return best.ending(HelicalValleyLBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = helicalValleyLBFGSAnalyticVerifyStall, true
 				continue
 			case found.end == helicalValleyLBFGSAnalyticSearchTiny:
 				end = HelicalValleyLBFGSAnalyticStalled
@@ -516,51 +504,30 @@ func helicalValleyLBFGSAnalyticCurvatureSafe(s, y *[3]float64) bool {
 	return sy > 0 && (sy/helicalValleyLBFGSAnalyticDot(s, s))*(sy/helicalValleyLBFGSAnalyticDot(y, y)) > helicalValleyLBFGSAnalyticUnitRoundoff
 }
 
-// helicalValleyLBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func helicalValleyLBFGSAnalyticGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *helicalValleyLBFGSAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	helicalValleyLBFGSAnalyticVerifyNothing = iota
+	helicalValleyLBFGSAnalyticVerifyPass    // a difference gradient passed the test
+	helicalValleyLBFGSAnalyticVerifyStall   // no step makes progress
+)
 
-// helicalValleyLBFGSAnalyticGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func helicalValleyLBFGSAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
-	scale := helicalValleyLBFGSAnalyticLarger(helicalValleyLBFGSAnalyticAbs(fx), 1)
-	for i := range g {
-		w := helicalValleyLBFGSAnalyticLarger(helicalValleyLBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = helicalValleyLBFGSAnalyticLarger(measure, (helicalValleyLBFGSAnalyticAbs(g[i])+e[i])*w)
-		floor = helicalValleyLBFGSAnalyticLarger(floor, e[i]*w)
+// helicalValleyLBFGSAnalyticSettle prepares a verdict at x: with differences it confirms the
+// gradient (helicalValleyLBFGSAnalyticConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (helicalValleyLBFGSAnalyticRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func helicalValleyLBFGSAnalyticSettle(x *[3]float64, fx float64, g, e *[3]float64, diffs *helicalValleyLBFGSAnalyticDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if helicalValleyLBFGSAnalyticDerivativeCost > 0 {
+		spent, ok := helicalValleyLBFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// helicalValleyLBFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func helicalValleyLBFGSAnalyticLarger(a, b float64) float64 {
-	if a > b || a != a {
-		return a
+	if stall {
+		helicalValleyLBFGSAnalyticRoundingFloor(x, g, e, diffs)
 	}
-	return b
-}
-
-// helicalValleyLBFGSAnalyticAbs returns |v|.
-func helicalValleyLBFGSAnalyticAbs(v float64) float64 {
-	if v < 0 {
-		return -v
-	}
-	return v
+	return calls, true
 }
 
 // helicalValleyLBFGSAnalyticConfirmGradient recomputes a difference gradient at x before the run is
@@ -593,33 +560,20 @@ func helicalValleyLBFGSAnalyticConfirmGradient(x *[3]float64, fx float64, g, e *
 	return calls + 2*helicalValleyLBFGSAnalyticDerivativeCost, true
 }
 
-// helicalValleyLBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func helicalValleyLBFGSAnalyticStepWithin(s, x *[3]float64, tol float64) bool {
-	for i := range s {
-		if !(helicalValleyLBFGSAnalyticAbs(s[i]) <= tol*(helicalValleyLBFGSAnalyticAbs(x[i])+1)) {
-			return false
-		}
+// helicalValleyLBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func helicalValleyLBFGSAnalyticGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *helicalValleyLBFGSAnalyticDifferences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// helicalValleyLBFGSAnalyticSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (helicalValleyLBFGSAnalyticConfirmGradient), then it adds to each error
-// bound the rounding floor of x (helicalValleyLBFGSAnalyticRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func helicalValleyLBFGSAnalyticSettle(x *[3]float64, fx float64, g, e *[3]float64, diffs *helicalValleyLBFGSAnalyticDifferences, budget int) (int, bool) {
-	calls := 0
-	if helicalValleyLBFGSAnalyticDerivativeCost > 0 {
-		spent, ok := helicalValleyLBFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// helicalValleyLBFGSAnalyticAbs returns |v|.
+func helicalValleyLBFGSAnalyticAbs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	helicalValleyLBFGSAnalyticRoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // helicalValleyLBFGSAnalyticRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -662,6 +616,49 @@ func helicalValleyLBFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
 // helicalValleyLBFGSAnalyticSquareRoot returns √v.
 func helicalValleyLBFGSAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// helicalValleyLBFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func helicalValleyLBFGSAnalyticLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// helicalValleyLBFGSAnalyticGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func helicalValleyLBFGSAnalyticGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
+	scale := helicalValleyLBFGSAnalyticLarger(helicalValleyLBFGSAnalyticAbs(fx), 1)
+	for i := range g {
+		w := helicalValleyLBFGSAnalyticLarger(helicalValleyLBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = helicalValleyLBFGSAnalyticLarger(measure, (helicalValleyLBFGSAnalyticAbs(g[i])+e[i])*w)
+		floor = helicalValleyLBFGSAnalyticLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// helicalValleyLBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func helicalValleyLBFGSAnalyticStepWithin(s, x *[3]float64, tol float64) bool {
+	for i := range s {
+		if !(helicalValleyLBFGSAnalyticAbs(s[i]) <= tol*(helicalValleyLBFGSAnalyticAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // helicalValleyLBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the

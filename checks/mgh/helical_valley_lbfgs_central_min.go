@@ -191,11 +191,25 @@ func helicalValleyLBFGSCentralMinimize(x0 [3]float64, lim HelicalValleyLBFGSCent
 	t, slope := float64(helicalValleyLBFGSCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                           // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                                 // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                    // whether g and e at x come from helicalValleyLBFGSCentralConfirmGradient
+	confirmed := false                                                    // whether g and e at x come from helicalValleyLBFGSCentralConfirmGradient or settle
 	stalled := false                                                      // whether the run can make no more progress at x
 	retried := -1                                                         // the iteration whose stall was retried with recalibrated differences
+	verify := helicalValleyLBFGSCentralVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != helicalValleyLBFGSCentralVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see helicalValleyLBFGSCentralConfirmGradient and settle).
+			calls, ok := helicalValleyLBFGSCentralSettle(&x, fx, &g, &e, &diffs, verify == helicalValleyLBFGSCentralVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(HelicalValleyLBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !helicalValleyLBFGSCentralFiniteVec(&g) {
+				return best.ending(HelicalValleyLBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = helicalValleyLBFGSCentralVerifyNothing, true
+		case !confirmed:
 			helicalValleyLBFGSCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := helicalValleyLBFGSCentralGradientMeasure(&g, &e, &x, fx)
@@ -213,17 +227,7 @@ func helicalValleyLBFGSCentralMinimize(x0 [3]float64, lim HelicalValleyLBFGSCent
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := helicalValleyLBFGSCentralConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(HelicalValleyLBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !helicalValleyLBFGSCentralFiniteVec(&g) {
-				return best.ending(HelicalValleyLBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = helicalValleyLBFGSCentralVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -241,15 +245,7 @@ func helicalValleyLBFGSCentralMinimize(x0 [3]float64, lim HelicalValleyLBFGSCent
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if helicalValleyLBFGSCentralStepWithin(&s, &x, lim.Step) {
-				calls, ok := helicalValleyLBFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(HelicalValleyLBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !helicalValleyLBFGSCentralFiniteVec(&g) {
-					return best.ending(HelicalValleyLBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = helicalValleyLBFGSCentralVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -290,15 +286,7 @@ func helicalValleyLBFGSCentralMinimize(x0 [3]float64, lim HelicalValleyLBFGSCent
 			case found.rising:
 				end = HelicalValleyLBFGSCentralNoDecrease
 			case found.end == helicalValleyLBFGSCentralSearchTiny && canSettle:
-				calls, ok := helicalValleyLBFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(HelicalValleyLBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !helicalValleyLBFGSCentralFiniteVec(&g) {
-					return best.ending(HelicalValleyLBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = helicalValleyLBFGSCentralVerifyStall, true
 				continue
 			case found.end == helicalValleyLBFGSCentralSearchTiny:
 				end = HelicalValleyLBFGSCentralStalled
@@ -659,37 +647,30 @@ func helicalValleyLBFGSCentralCurvatureSafe(s, y *[3]float64) bool {
 	return sy > 0 && (sy/helicalValleyLBFGSCentralDot(s, s))*(sy/helicalValleyLBFGSCentralDot(y, y)) > helicalValleyLBFGSCentralUnitRoundoff
 }
 
-// helicalValleyLBFGSCentralGradientError bounds each central difference's error by twice its
-// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
-// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
-// in forwardError).
-func helicalValleyLBFGSCentralGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *helicalValleyLBFGSCentralDifferences) {
-	noise := helicalValleyLBFGSCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h := diffs.ratio[i] * helicalValleyLBFGSCentralLarger(1, helicalValleyLBFGSCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	helicalValleyLBFGSCentralVerifyNothing = iota
+	helicalValleyLBFGSCentralVerifyPass    // a difference gradient passed the test
+	helicalValleyLBFGSCentralVerifyStall   // no step makes progress
+)
 
-// helicalValleyLBFGSCentralGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func helicalValleyLBFGSCentralGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
-	scale := helicalValleyLBFGSCentralLarger(helicalValleyLBFGSCentralAbs(fx), 1)
-	for i := range g {
-		w := helicalValleyLBFGSCentralLarger(helicalValleyLBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = helicalValleyLBFGSCentralLarger(measure, (helicalValleyLBFGSCentralAbs(g[i])+e[i])*w)
-		floor = helicalValleyLBFGSCentralLarger(floor, e[i]*w)
+// helicalValleyLBFGSCentralSettle prepares a verdict at x: with differences it confirms the
+// gradient (helicalValleyLBFGSCentralConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (helicalValleyLBFGSCentralRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func helicalValleyLBFGSCentralSettle(x *[3]float64, fx float64, g, e *[3]float64, diffs *helicalValleyLBFGSCentralDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if helicalValleyLBFGSCentralDerivativeCost > 0 {
+		spent, ok := helicalValleyLBFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
+	if stall {
+		helicalValleyLBFGSCentralRoundingFloor(x, g, e, diffs)
+	}
+	return calls, true
 }
 
 // helicalValleyLBFGSCentralConfirmGradient recomputes a difference gradient at x before the run is
@@ -722,33 +703,16 @@ func helicalValleyLBFGSCentralConfirmGradient(x *[3]float64, fx float64, g, e *[
 	return calls + 2*helicalValleyLBFGSCentralDerivativeCost, true
 }
 
-// helicalValleyLBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func helicalValleyLBFGSCentralStepWithin(s, x *[3]float64, tol float64) bool {
-	for i := range s {
-		if !(helicalValleyLBFGSCentralAbs(s[i]) <= tol*(helicalValleyLBFGSCentralAbs(x[i])+1)) {
-			return false
-		}
+// helicalValleyLBFGSCentralGradientError bounds each central difference's error by twice its
+// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
+// in forwardError).
+func helicalValleyLBFGSCentralGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *helicalValleyLBFGSCentralDifferences) {
+	noise := helicalValleyLBFGSCentralNoiseLevel(x, fx, g)
+	for i := range e {
+		h := diffs.ratio[i] * helicalValleyLBFGSCentralLarger(1, helicalValleyLBFGSCentralAbs(x[i]))
+		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
 	}
-	return true
-}
-
-// helicalValleyLBFGSCentralSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (helicalValleyLBFGSCentralConfirmGradient), then it adds to each error
-// bound the rounding floor of x (helicalValleyLBFGSCentralRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func helicalValleyLBFGSCentralSettle(x *[3]float64, fx float64, g, e *[3]float64, diffs *helicalValleyLBFGSCentralDifferences, budget int) (int, bool) {
-	calls := 0
-	if helicalValleyLBFGSCentralDerivativeCost > 0 {
-		spent, ok := helicalValleyLBFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
-	}
-	helicalValleyLBFGSCentralRoundingFloor(x, g, e, diffs)
-	return calls, true
 }
 
 // helicalValleyLBFGSCentralRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -769,6 +733,39 @@ func helicalValleyLBFGSCentralRoundingFloor(x, g, e *[3]float64, diffs *helicalV
 // calibration, which helicalValleyLBFGSCentralConfirmGradient has just made at x.
 func helicalValleyLBFGSCentralDiagonalCurvature(x, g *[3]float64, diffs *helicalValleyLBFGSCentralDifferences, h *[3]float64) {
 	*h = diffs.second
+}
+
+// helicalValleyLBFGSCentralGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func helicalValleyLBFGSCentralGradientMeasure(g, e, x *[3]float64, fx float64) (measure, floor float64) {
+	scale := helicalValleyLBFGSCentralLarger(helicalValleyLBFGSCentralAbs(fx), 1)
+	for i := range g {
+		w := helicalValleyLBFGSCentralLarger(helicalValleyLBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = helicalValleyLBFGSCentralLarger(measure, (helicalValleyLBFGSCentralAbs(g[i])+e[i])*w)
+		floor = helicalValleyLBFGSCentralLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// helicalValleyLBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func helicalValleyLBFGSCentralStepWithin(s, x *[3]float64, tol float64) bool {
+	for i := range s {
+		if !(helicalValleyLBFGSCentralAbs(s[i]) <= tol*(helicalValleyLBFGSCentralAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // helicalValleyLBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the

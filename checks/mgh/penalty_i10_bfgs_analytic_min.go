@@ -190,11 +190,25 @@ func penaltyI10BFGSAnalyticMinimize(x0 [10]float64, lim PenaltyI10BFGSAnalyticLi
 	t, slope := float64(penaltyI10BFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                        // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                              // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                 // whether g and e at x come from penaltyI10BFGSAnalyticConfirmGradient
+	confirmed := false                                                 // whether g and e at x come from penaltyI10BFGSAnalyticConfirmGradient or settle
 	stalled := false                                                   // whether the run can make no more progress at x
 	retried := -1                                                      // the iteration whose stall was retried with recalibrated differences
+	verify := penaltyI10BFGSAnalyticVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != penaltyI10BFGSAnalyticVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see penaltyI10BFGSAnalyticConfirmGradient and settle).
+			calls, ok := penaltyI10BFGSAnalyticSettle(&x, fx, &g, &e, &diffs, verify == penaltyI10BFGSAnalyticVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(PenaltyI10BFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !penaltyI10BFGSAnalyticFiniteVec(&g) {
+				return best.ending(PenaltyI10BFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = penaltyI10BFGSAnalyticVerifyNothing, true
+		case !confirmed:
 			penaltyI10BFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := penaltyI10BFGSAnalyticGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func penaltyI10BFGSAnalyticMinimize(x0 [10]float64, lim PenaltyI10BFGSAnalyticLi
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := penaltyI10BFGSAnalyticConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(PenaltyI10BFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !penaltyI10BFGSAnalyticFiniteVec(&g) {
-				return best.ending(PenaltyI10BFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = penaltyI10BFGSAnalyticVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func penaltyI10BFGSAnalyticMinimize(x0 [10]float64, lim PenaltyI10BFGSAnalyticLi
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if penaltyI10BFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				calls, ok := penaltyI10BFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PenaltyI10BFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !penaltyI10BFGSAnalyticFiniteVec(&g) {
-					return best.ending(PenaltyI10BFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = penaltyI10BFGSAnalyticVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func penaltyI10BFGSAnalyticMinimize(x0 [10]float64, lim PenaltyI10BFGSAnalyticLi
 			case found.rising:
 				end = PenaltyI10BFGSAnalyticNoDecrease
 			case found.end == penaltyI10BFGSAnalyticSearchTiny && canSettle:
-				calls, ok := penaltyI10BFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PenaltyI10BFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !penaltyI10BFGSAnalyticFiniteVec(&g) {
-					return best.ending(PenaltyI10BFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = penaltyI10BFGSAnalyticVerifyStall, true
 				continue
 			case found.end == penaltyI10BFGSAnalyticSearchTiny:
 				end = PenaltyI10BFGSAnalyticStalled
@@ -490,51 +478,30 @@ func penaltyI10BFGSAnalyticCurvatureSafe(s, y *[10]float64) bool {
 	return sy > 0 && (sy/penaltyI10BFGSAnalyticDot(s, s))*(sy/penaltyI10BFGSAnalyticDot(y, y)) > penaltyI10BFGSAnalyticUnitRoundoff
 }
 
-// penaltyI10BFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func penaltyI10BFGSAnalyticGradientError(x *[10]float64, fx float64, g, e *[10]float64, diffs *penaltyI10BFGSAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	penaltyI10BFGSAnalyticVerifyNothing = iota
+	penaltyI10BFGSAnalyticVerifyPass    // a difference gradient passed the test
+	penaltyI10BFGSAnalyticVerifyStall   // no step makes progress
+)
 
-// penaltyI10BFGSAnalyticGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func penaltyI10BFGSAnalyticGradientMeasure(g, e, x *[10]float64, fx float64) (measure, floor float64) {
-	scale := penaltyI10BFGSAnalyticLarger(penaltyI10BFGSAnalyticAbs(fx), 1)
-	for i := range g {
-		w := penaltyI10BFGSAnalyticLarger(penaltyI10BFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = penaltyI10BFGSAnalyticLarger(measure, (penaltyI10BFGSAnalyticAbs(g[i])+e[i])*w)
-		floor = penaltyI10BFGSAnalyticLarger(floor, e[i]*w)
+// penaltyI10BFGSAnalyticSettle prepares a verdict at x: with differences it confirms the
+// gradient (penaltyI10BFGSAnalyticConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (penaltyI10BFGSAnalyticRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func penaltyI10BFGSAnalyticSettle(x *[10]float64, fx float64, g, e *[10]float64, diffs *penaltyI10BFGSAnalyticDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if penaltyI10BFGSAnalyticDerivativeCost > 0 {
+		spent, ok := penaltyI10BFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// penaltyI10BFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func penaltyI10BFGSAnalyticLarger(a, b float64) float64 {
-	if a > b || a != a {
-		return a
+	if stall {
+		penaltyI10BFGSAnalyticRoundingFloor(x, g, e, diffs)
 	}
-	return b
-}
-
-// penaltyI10BFGSAnalyticAbs returns |v|.
-func penaltyI10BFGSAnalyticAbs(v float64) float64 {
-	if v < 0 {
-		return -v
-	}
-	return v
+	return calls, true
 }
 
 // penaltyI10BFGSAnalyticConfirmGradient recomputes a difference gradient at x before the run is
@@ -567,33 +534,20 @@ func penaltyI10BFGSAnalyticConfirmGradient(x *[10]float64, fx float64, g, e *[10
 	return calls + 2*penaltyI10BFGSAnalyticDerivativeCost, true
 }
 
-// penaltyI10BFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func penaltyI10BFGSAnalyticStepWithin(s, x *[10]float64, tol float64) bool {
-	for i := range s {
-		if !(penaltyI10BFGSAnalyticAbs(s[i]) <= tol*(penaltyI10BFGSAnalyticAbs(x[i])+1)) {
-			return false
-		}
+// penaltyI10BFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func penaltyI10BFGSAnalyticGradientError(x *[10]float64, fx float64, g, e *[10]float64, diffs *penaltyI10BFGSAnalyticDifferences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// penaltyI10BFGSAnalyticSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (penaltyI10BFGSAnalyticConfirmGradient), then it adds to each error
-// bound the rounding floor of x (penaltyI10BFGSAnalyticRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func penaltyI10BFGSAnalyticSettle(x *[10]float64, fx float64, g, e *[10]float64, diffs *penaltyI10BFGSAnalyticDifferences, budget int) (int, bool) {
-	calls := 0
-	if penaltyI10BFGSAnalyticDerivativeCost > 0 {
-		spent, ok := penaltyI10BFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// penaltyI10BFGSAnalyticAbs returns |v|.
+func penaltyI10BFGSAnalyticAbs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	penaltyI10BFGSAnalyticRoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // penaltyI10BFGSAnalyticRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -636,6 +590,49 @@ func penaltyI10BFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
 // penaltyI10BFGSAnalyticSquareRoot returns √v.
 func penaltyI10BFGSAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// penaltyI10BFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func penaltyI10BFGSAnalyticLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// penaltyI10BFGSAnalyticGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func penaltyI10BFGSAnalyticGradientMeasure(g, e, x *[10]float64, fx float64) (measure, floor float64) {
+	scale := penaltyI10BFGSAnalyticLarger(penaltyI10BFGSAnalyticAbs(fx), 1)
+	for i := range g {
+		w := penaltyI10BFGSAnalyticLarger(penaltyI10BFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = penaltyI10BFGSAnalyticLarger(measure, (penaltyI10BFGSAnalyticAbs(g[i])+e[i])*w)
+		floor = penaltyI10BFGSAnalyticLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// penaltyI10BFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func penaltyI10BFGSAnalyticStepWithin(s, x *[10]float64, tol float64) bool {
+	for i := range s {
+		if !(penaltyI10BFGSAnalyticAbs(s[i]) <= tol*(penaltyI10BFGSAnalyticAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // penaltyI10BFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the

@@ -190,11 +190,25 @@ func penaltyI10CGCentralMinimize(x0 [10]float64, lim PenaltyI10CGCentralLimits) 
 	t, slope := float64(penaltyI10CGCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                     // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                           // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                              // whether g and e at x come from penaltyI10CGCentralConfirmGradient
+	confirmed := false                                              // whether g and e at x come from penaltyI10CGCentralConfirmGradient or settle
 	stalled := false                                                // whether the run can make no more progress at x
 	retried := -1                                                   // the iteration whose stall was retried with recalibrated differences
+	verify := penaltyI10CGCentralVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != penaltyI10CGCentralVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see penaltyI10CGCentralConfirmGradient and settle).
+			calls, ok := penaltyI10CGCentralSettle(&x, fx, &g, &e, &diffs, verify == penaltyI10CGCentralVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(PenaltyI10CGCentralOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !penaltyI10CGCentralFiniteVec(&g) {
+				return best.ending(PenaltyI10CGCentralNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = penaltyI10CGCentralVerifyNothing, true
+		case !confirmed:
 			penaltyI10CGCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := penaltyI10CGCentralGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func penaltyI10CGCentralMinimize(x0 [10]float64, lim PenaltyI10CGCentralLimits) 
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := penaltyI10CGCentralConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(PenaltyI10CGCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !penaltyI10CGCentralFiniteVec(&g) {
-				return best.ending(PenaltyI10CGCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = penaltyI10CGCentralVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func penaltyI10CGCentralMinimize(x0 [10]float64, lim PenaltyI10CGCentralLimits) 
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if penaltyI10CGCentralStepWithin(&s, &x, lim.Step) {
-				calls, ok := penaltyI10CGCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PenaltyI10CGCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !penaltyI10CGCentralFiniteVec(&g) {
-					return best.ending(PenaltyI10CGCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = penaltyI10CGCentralVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func penaltyI10CGCentralMinimize(x0 [10]float64, lim PenaltyI10CGCentralLimits) 
 			case found.rising:
 				end = PenaltyI10CGCentralNoDecrease
 			case found.end == penaltyI10CGCentralSearchTiny && canSettle:
-				calls, ok := penaltyI10CGCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PenaltyI10CGCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !penaltyI10CGCentralFiniteVec(&g) {
-					return best.ending(PenaltyI10CGCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = penaltyI10CGCentralVerifyStall, true
 				continue
 			case found.end == penaltyI10CGCentralSearchTiny:
 				end = PenaltyI10CGCentralStalled
@@ -615,37 +603,30 @@ func penaltyI10CGCentralScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
-// penaltyI10CGCentralGradientError bounds each central difference's error by twice its
-// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
-// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
-// in forwardError).
-func penaltyI10CGCentralGradientError(x *[10]float64, fx float64, g, e *[10]float64, diffs *penaltyI10CGCentralDifferences) {
-	noise := penaltyI10CGCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h := diffs.ratio[i] * penaltyI10CGCentralLarger(1, penaltyI10CGCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	penaltyI10CGCentralVerifyNothing = iota
+	penaltyI10CGCentralVerifyPass    // a difference gradient passed the test
+	penaltyI10CGCentralVerifyStall   // no step makes progress
+)
 
-// penaltyI10CGCentralGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func penaltyI10CGCentralGradientMeasure(g, e, x *[10]float64, fx float64) (measure, floor float64) {
-	scale := penaltyI10CGCentralLarger(penaltyI10CGCentralAbs(fx), 1)
-	for i := range g {
-		w := penaltyI10CGCentralLarger(penaltyI10CGCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = penaltyI10CGCentralLarger(measure, (penaltyI10CGCentralAbs(g[i])+e[i])*w)
-		floor = penaltyI10CGCentralLarger(floor, e[i]*w)
+// penaltyI10CGCentralSettle prepares a verdict at x: with differences it confirms the
+// gradient (penaltyI10CGCentralConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (penaltyI10CGCentralRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func penaltyI10CGCentralSettle(x *[10]float64, fx float64, g, e *[10]float64, diffs *penaltyI10CGCentralDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if penaltyI10CGCentralDerivativeCost > 0 {
+		spent, ok := penaltyI10CGCentralConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
+	if stall {
+		penaltyI10CGCentralRoundingFloor(x, g, e, diffs)
+	}
+	return calls, true
 }
 
 // penaltyI10CGCentralConfirmGradient recomputes a difference gradient at x before the run is
@@ -678,33 +659,16 @@ func penaltyI10CGCentralConfirmGradient(x *[10]float64, fx float64, g, e *[10]fl
 	return calls + 2*penaltyI10CGCentralDerivativeCost, true
 }
 
-// penaltyI10CGCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func penaltyI10CGCentralStepWithin(s, x *[10]float64, tol float64) bool {
-	for i := range s {
-		if !(penaltyI10CGCentralAbs(s[i]) <= tol*(penaltyI10CGCentralAbs(x[i])+1)) {
-			return false
-		}
+// penaltyI10CGCentralGradientError bounds each central difference's error by twice its
+// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
+// in forwardError).
+func penaltyI10CGCentralGradientError(x *[10]float64, fx float64, g, e *[10]float64, diffs *penaltyI10CGCentralDifferences) {
+	noise := penaltyI10CGCentralNoiseLevel(x, fx, g)
+	for i := range e {
+		h := diffs.ratio[i] * penaltyI10CGCentralLarger(1, penaltyI10CGCentralAbs(x[i]))
+		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
 	}
-	return true
-}
-
-// penaltyI10CGCentralSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (penaltyI10CGCentralConfirmGradient), then it adds to each error
-// bound the rounding floor of x (penaltyI10CGCentralRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func penaltyI10CGCentralSettle(x *[10]float64, fx float64, g, e *[10]float64, diffs *penaltyI10CGCentralDifferences, budget int) (int, bool) {
-	calls := 0
-	if penaltyI10CGCentralDerivativeCost > 0 {
-		spent, ok := penaltyI10CGCentralConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
-	}
-	penaltyI10CGCentralRoundingFloor(x, g, e, diffs)
-	return calls, true
 }
 
 // penaltyI10CGCentralRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -725,6 +689,39 @@ func penaltyI10CGCentralRoundingFloor(x, g, e *[10]float64, diffs *penaltyI10CGC
 // calibration, which penaltyI10CGCentralConfirmGradient has just made at x.
 func penaltyI10CGCentralDiagonalCurvature(x, g *[10]float64, diffs *penaltyI10CGCentralDifferences, h *[10]float64) {
 	*h = diffs.second
+}
+
+// penaltyI10CGCentralGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func penaltyI10CGCentralGradientMeasure(g, e, x *[10]float64, fx float64) (measure, floor float64) {
+	scale := penaltyI10CGCentralLarger(penaltyI10CGCentralAbs(fx), 1)
+	for i := range g {
+		w := penaltyI10CGCentralLarger(penaltyI10CGCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = penaltyI10CGCentralLarger(measure, (penaltyI10CGCentralAbs(g[i])+e[i])*w)
+		floor = penaltyI10CGCentralLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// penaltyI10CGCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func penaltyI10CGCentralStepWithin(s, x *[10]float64, tol float64) bool {
+	for i := range s {
+		if !(penaltyI10CGCentralAbs(s[i]) <= tol*(penaltyI10CGCentralAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // penaltyI10CGCentralTinyStep returns the longest t for which the step t·d from x passes the

@@ -191,11 +191,25 @@ func penaltyI10LBFGSAnalyticMinimize(x0 [10]float64, lim PenaltyI10LBFGSAnalytic
 	t, slope := float64(penaltyI10LBFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                         // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                               // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                  // whether g and e at x come from penaltyI10LBFGSAnalyticConfirmGradient
+	confirmed := false                                                  // whether g and e at x come from penaltyI10LBFGSAnalyticConfirmGradient or settle
 	stalled := false                                                    // whether the run can make no more progress at x
 	retried := -1                                                       // the iteration whose stall was retried with recalibrated differences
+	verify := penaltyI10LBFGSAnalyticVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != penaltyI10LBFGSAnalyticVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see penaltyI10LBFGSAnalyticConfirmGradient and settle).
+			calls, ok := penaltyI10LBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, verify == penaltyI10LBFGSAnalyticVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(PenaltyI10LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !penaltyI10LBFGSAnalyticFiniteVec(&g) {
+				return best.ending(PenaltyI10LBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = penaltyI10LBFGSAnalyticVerifyNothing, true
+		case !confirmed:
 			penaltyI10LBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := penaltyI10LBFGSAnalyticGradientMeasure(&g, &e, &x, fx)
@@ -213,17 +227,7 @@ func penaltyI10LBFGSAnalyticMinimize(x0 [10]float64, lim PenaltyI10LBFGSAnalytic
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := penaltyI10LBFGSAnalyticConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(PenaltyI10LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !penaltyI10LBFGSAnalyticFiniteVec(&g) {
-				return best.ending(PenaltyI10LBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = penaltyI10LBFGSAnalyticVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -241,15 +245,7 @@ func penaltyI10LBFGSAnalyticMinimize(x0 [10]float64, lim PenaltyI10LBFGSAnalytic
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if penaltyI10LBFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				calls, ok := penaltyI10LBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PenaltyI10LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !penaltyI10LBFGSAnalyticFiniteVec(&g) {
-					return best.ending(PenaltyI10LBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = penaltyI10LBFGSAnalyticVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -290,15 +286,7 @@ func penaltyI10LBFGSAnalyticMinimize(x0 [10]float64, lim PenaltyI10LBFGSAnalytic
 			case found.rising:
 				end = PenaltyI10LBFGSAnalyticNoDecrease
 			case found.end == penaltyI10LBFGSAnalyticSearchTiny && canSettle:
-				calls, ok := penaltyI10LBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PenaltyI10LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !penaltyI10LBFGSAnalyticFiniteVec(&g) {
-					return best.ending(PenaltyI10LBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = penaltyI10LBFGSAnalyticVerifyStall, true
 				continue
 			case found.end == penaltyI10LBFGSAnalyticSearchTiny:
 				end = PenaltyI10LBFGSAnalyticStalled
@@ -516,51 +504,30 @@ func penaltyI10LBFGSAnalyticCurvatureSafe(s, y *[10]float64) bool {
 	return sy > 0 && (sy/penaltyI10LBFGSAnalyticDot(s, s))*(sy/penaltyI10LBFGSAnalyticDot(y, y)) > penaltyI10LBFGSAnalyticUnitRoundoff
 }
 
-// penaltyI10LBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func penaltyI10LBFGSAnalyticGradientError(x *[10]float64, fx float64, g, e *[10]float64, diffs *penaltyI10LBFGSAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	penaltyI10LBFGSAnalyticVerifyNothing = iota
+	penaltyI10LBFGSAnalyticVerifyPass    // a difference gradient passed the test
+	penaltyI10LBFGSAnalyticVerifyStall   // no step makes progress
+)
 
-// penaltyI10LBFGSAnalyticGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func penaltyI10LBFGSAnalyticGradientMeasure(g, e, x *[10]float64, fx float64) (measure, floor float64) {
-	scale := penaltyI10LBFGSAnalyticLarger(penaltyI10LBFGSAnalyticAbs(fx), 1)
-	for i := range g {
-		w := penaltyI10LBFGSAnalyticLarger(penaltyI10LBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = penaltyI10LBFGSAnalyticLarger(measure, (penaltyI10LBFGSAnalyticAbs(g[i])+e[i])*w)
-		floor = penaltyI10LBFGSAnalyticLarger(floor, e[i]*w)
+// penaltyI10LBFGSAnalyticSettle prepares a verdict at x: with differences it confirms the
+// gradient (penaltyI10LBFGSAnalyticConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (penaltyI10LBFGSAnalyticRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func penaltyI10LBFGSAnalyticSettle(x *[10]float64, fx float64, g, e *[10]float64, diffs *penaltyI10LBFGSAnalyticDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if penaltyI10LBFGSAnalyticDerivativeCost > 0 {
+		spent, ok := penaltyI10LBFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// penaltyI10LBFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func penaltyI10LBFGSAnalyticLarger(a, b float64) float64 {
-	if a > b || a != a {
-		return a
+	if stall {
+		penaltyI10LBFGSAnalyticRoundingFloor(x, g, e, diffs)
 	}
-	return b
-}
-
-// penaltyI10LBFGSAnalyticAbs returns |v|.
-func penaltyI10LBFGSAnalyticAbs(v float64) float64 {
-	if v < 0 {
-		return -v
-	}
-	return v
+	return calls, true
 }
 
 // penaltyI10LBFGSAnalyticConfirmGradient recomputes a difference gradient at x before the run is
@@ -593,33 +560,20 @@ func penaltyI10LBFGSAnalyticConfirmGradient(x *[10]float64, fx float64, g, e *[1
 	return calls + 2*penaltyI10LBFGSAnalyticDerivativeCost, true
 }
 
-// penaltyI10LBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func penaltyI10LBFGSAnalyticStepWithin(s, x *[10]float64, tol float64) bool {
-	for i := range s {
-		if !(penaltyI10LBFGSAnalyticAbs(s[i]) <= tol*(penaltyI10LBFGSAnalyticAbs(x[i])+1)) {
-			return false
-		}
+// penaltyI10LBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func penaltyI10LBFGSAnalyticGradientError(x *[10]float64, fx float64, g, e *[10]float64, diffs *penaltyI10LBFGSAnalyticDifferences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// penaltyI10LBFGSAnalyticSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (penaltyI10LBFGSAnalyticConfirmGradient), then it adds to each error
-// bound the rounding floor of x (penaltyI10LBFGSAnalyticRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func penaltyI10LBFGSAnalyticSettle(x *[10]float64, fx float64, g, e *[10]float64, diffs *penaltyI10LBFGSAnalyticDifferences, budget int) (int, bool) {
-	calls := 0
-	if penaltyI10LBFGSAnalyticDerivativeCost > 0 {
-		spent, ok := penaltyI10LBFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// penaltyI10LBFGSAnalyticAbs returns |v|.
+func penaltyI10LBFGSAnalyticAbs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	penaltyI10LBFGSAnalyticRoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // penaltyI10LBFGSAnalyticRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -662,6 +616,49 @@ func penaltyI10LBFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
 // penaltyI10LBFGSAnalyticSquareRoot returns √v.
 func penaltyI10LBFGSAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// penaltyI10LBFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func penaltyI10LBFGSAnalyticLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// penaltyI10LBFGSAnalyticGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func penaltyI10LBFGSAnalyticGradientMeasure(g, e, x *[10]float64, fx float64) (measure, floor float64) {
+	scale := penaltyI10LBFGSAnalyticLarger(penaltyI10LBFGSAnalyticAbs(fx), 1)
+	for i := range g {
+		w := penaltyI10LBFGSAnalyticLarger(penaltyI10LBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = penaltyI10LBFGSAnalyticLarger(measure, (penaltyI10LBFGSAnalyticAbs(g[i])+e[i])*w)
+		floor = penaltyI10LBFGSAnalyticLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// penaltyI10LBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func penaltyI10LBFGSAnalyticStepWithin(s, x *[10]float64, tol float64) bool {
+	for i := range s {
+		if !(penaltyI10LBFGSAnalyticAbs(s[i]) <= tol*(penaltyI10LBFGSAnalyticAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // penaltyI10LBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the

@@ -191,11 +191,25 @@ func penaltyI10LBFGSCentralMinimize(x0 [10]float64, lim PenaltyI10LBFGSCentralLi
 	t, slope := float64(penaltyI10LBFGSCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                        // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                              // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                 // whether g and e at x come from penaltyI10LBFGSCentralConfirmGradient
+	confirmed := false                                                 // whether g and e at x come from penaltyI10LBFGSCentralConfirmGradient or settle
 	stalled := false                                                   // whether the run can make no more progress at x
 	retried := -1                                                      // the iteration whose stall was retried with recalibrated differences
+	verify := penaltyI10LBFGSCentralVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != penaltyI10LBFGSCentralVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see penaltyI10LBFGSCentralConfirmGradient and settle).
+			calls, ok := penaltyI10LBFGSCentralSettle(&x, fx, &g, &e, &diffs, verify == penaltyI10LBFGSCentralVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(PenaltyI10LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !penaltyI10LBFGSCentralFiniteVec(&g) {
+				return best.ending(PenaltyI10LBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = penaltyI10LBFGSCentralVerifyNothing, true
+		case !confirmed:
 			penaltyI10LBFGSCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := penaltyI10LBFGSCentralGradientMeasure(&g, &e, &x, fx)
@@ -213,17 +227,7 @@ func penaltyI10LBFGSCentralMinimize(x0 [10]float64, lim PenaltyI10LBFGSCentralLi
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := penaltyI10LBFGSCentralConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(PenaltyI10LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !penaltyI10LBFGSCentralFiniteVec(&g) {
-				return best.ending(PenaltyI10LBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = penaltyI10LBFGSCentralVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -241,15 +245,7 @@ func penaltyI10LBFGSCentralMinimize(x0 [10]float64, lim PenaltyI10LBFGSCentralLi
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if penaltyI10LBFGSCentralStepWithin(&s, &x, lim.Step) {
-				calls, ok := penaltyI10LBFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PenaltyI10LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !penaltyI10LBFGSCentralFiniteVec(&g) {
-					return best.ending(PenaltyI10LBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = penaltyI10LBFGSCentralVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -290,15 +286,7 @@ func penaltyI10LBFGSCentralMinimize(x0 [10]float64, lim PenaltyI10LBFGSCentralLi
 			case found.rising:
 				end = PenaltyI10LBFGSCentralNoDecrease
 			case found.end == penaltyI10LBFGSCentralSearchTiny && canSettle:
-				calls, ok := penaltyI10LBFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PenaltyI10LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !penaltyI10LBFGSCentralFiniteVec(&g) {
-					return best.ending(PenaltyI10LBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = penaltyI10LBFGSCentralVerifyStall, true
 				continue
 			case found.end == penaltyI10LBFGSCentralSearchTiny:
 				end = PenaltyI10LBFGSCentralStalled
@@ -659,37 +647,30 @@ func penaltyI10LBFGSCentralCurvatureSafe(s, y *[10]float64) bool {
 	return sy > 0 && (sy/penaltyI10LBFGSCentralDot(s, s))*(sy/penaltyI10LBFGSCentralDot(y, y)) > penaltyI10LBFGSCentralUnitRoundoff
 }
 
-// penaltyI10LBFGSCentralGradientError bounds each central difference's error by twice its
-// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
-// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
-// in forwardError).
-func penaltyI10LBFGSCentralGradientError(x *[10]float64, fx float64, g, e *[10]float64, diffs *penaltyI10LBFGSCentralDifferences) {
-	noise := penaltyI10LBFGSCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h := diffs.ratio[i] * penaltyI10LBFGSCentralLarger(1, penaltyI10LBFGSCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	penaltyI10LBFGSCentralVerifyNothing = iota
+	penaltyI10LBFGSCentralVerifyPass    // a difference gradient passed the test
+	penaltyI10LBFGSCentralVerifyStall   // no step makes progress
+)
 
-// penaltyI10LBFGSCentralGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func penaltyI10LBFGSCentralGradientMeasure(g, e, x *[10]float64, fx float64) (measure, floor float64) {
-	scale := penaltyI10LBFGSCentralLarger(penaltyI10LBFGSCentralAbs(fx), 1)
-	for i := range g {
-		w := penaltyI10LBFGSCentralLarger(penaltyI10LBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = penaltyI10LBFGSCentralLarger(measure, (penaltyI10LBFGSCentralAbs(g[i])+e[i])*w)
-		floor = penaltyI10LBFGSCentralLarger(floor, e[i]*w)
+// penaltyI10LBFGSCentralSettle prepares a verdict at x: with differences it confirms the
+// gradient (penaltyI10LBFGSCentralConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (penaltyI10LBFGSCentralRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func penaltyI10LBFGSCentralSettle(x *[10]float64, fx float64, g, e *[10]float64, diffs *penaltyI10LBFGSCentralDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if penaltyI10LBFGSCentralDerivativeCost > 0 {
+		spent, ok := penaltyI10LBFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
+	if stall {
+		penaltyI10LBFGSCentralRoundingFloor(x, g, e, diffs)
+	}
+	return calls, true
 }
 
 // penaltyI10LBFGSCentralConfirmGradient recomputes a difference gradient at x before the run is
@@ -722,33 +703,16 @@ func penaltyI10LBFGSCentralConfirmGradient(x *[10]float64, fx float64, g, e *[10
 	return calls + 2*penaltyI10LBFGSCentralDerivativeCost, true
 }
 
-// penaltyI10LBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func penaltyI10LBFGSCentralStepWithin(s, x *[10]float64, tol float64) bool {
-	for i := range s {
-		if !(penaltyI10LBFGSCentralAbs(s[i]) <= tol*(penaltyI10LBFGSCentralAbs(x[i])+1)) {
-			return false
-		}
+// penaltyI10LBFGSCentralGradientError bounds each central difference's error by twice its
+// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
+// in forwardError).
+func penaltyI10LBFGSCentralGradientError(x *[10]float64, fx float64, g, e *[10]float64, diffs *penaltyI10LBFGSCentralDifferences) {
+	noise := penaltyI10LBFGSCentralNoiseLevel(x, fx, g)
+	for i := range e {
+		h := diffs.ratio[i] * penaltyI10LBFGSCentralLarger(1, penaltyI10LBFGSCentralAbs(x[i]))
+		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
 	}
-	return true
-}
-
-// penaltyI10LBFGSCentralSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (penaltyI10LBFGSCentralConfirmGradient), then it adds to each error
-// bound the rounding floor of x (penaltyI10LBFGSCentralRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func penaltyI10LBFGSCentralSettle(x *[10]float64, fx float64, g, e *[10]float64, diffs *penaltyI10LBFGSCentralDifferences, budget int) (int, bool) {
-	calls := 0
-	if penaltyI10LBFGSCentralDerivativeCost > 0 {
-		spent, ok := penaltyI10LBFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
-	}
-	penaltyI10LBFGSCentralRoundingFloor(x, g, e, diffs)
-	return calls, true
 }
 
 // penaltyI10LBFGSCentralRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -769,6 +733,39 @@ func penaltyI10LBFGSCentralRoundingFloor(x, g, e *[10]float64, diffs *penaltyI10
 // calibration, which penaltyI10LBFGSCentralConfirmGradient has just made at x.
 func penaltyI10LBFGSCentralDiagonalCurvature(x, g *[10]float64, diffs *penaltyI10LBFGSCentralDifferences, h *[10]float64) {
 	*h = diffs.second
+}
+
+// penaltyI10LBFGSCentralGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func penaltyI10LBFGSCentralGradientMeasure(g, e, x *[10]float64, fx float64) (measure, floor float64) {
+	scale := penaltyI10LBFGSCentralLarger(penaltyI10LBFGSCentralAbs(fx), 1)
+	for i := range g {
+		w := penaltyI10LBFGSCentralLarger(penaltyI10LBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = penaltyI10LBFGSCentralLarger(measure, (penaltyI10LBFGSCentralAbs(g[i])+e[i])*w)
+		floor = penaltyI10LBFGSCentralLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// penaltyI10LBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func penaltyI10LBFGSCentralStepWithin(s, x *[10]float64, tol float64) bool {
+	for i := range s {
+		if !(penaltyI10LBFGSCentralAbs(s[i]) <= tol*(penaltyI10LBFGSCentralAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // penaltyI10LBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the

@@ -190,11 +190,25 @@ func penaltyI4BFGSAnalyticMinimize(x0 [4]float64, lim PenaltyI4BFGSAnalyticLimit
 	t, slope := float64(penaltyI4BFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                       // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                             // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                // whether g and e at x come from penaltyI4BFGSAnalyticConfirmGradient
+	confirmed := false                                                // whether g and e at x come from penaltyI4BFGSAnalyticConfirmGradient or settle
 	stalled := false                                                  // whether the run can make no more progress at x
 	retried := -1                                                     // the iteration whose stall was retried with recalibrated differences
+	verify := penaltyI4BFGSAnalyticVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != penaltyI4BFGSAnalyticVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see penaltyI4BFGSAnalyticConfirmGradient and settle).
+			calls, ok := penaltyI4BFGSAnalyticSettle(&x, fx, &g, &e, &diffs, verify == penaltyI4BFGSAnalyticVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(PenaltyI4BFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !penaltyI4BFGSAnalyticFiniteVec(&g) {
+				return best.ending(PenaltyI4BFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = penaltyI4BFGSAnalyticVerifyNothing, true
+		case !confirmed:
 			penaltyI4BFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := penaltyI4BFGSAnalyticGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func penaltyI4BFGSAnalyticMinimize(x0 [4]float64, lim PenaltyI4BFGSAnalyticLimit
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := penaltyI4BFGSAnalyticConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(PenaltyI4BFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !penaltyI4BFGSAnalyticFiniteVec(&g) {
-				return best.ending(PenaltyI4BFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = penaltyI4BFGSAnalyticVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func penaltyI4BFGSAnalyticMinimize(x0 [4]float64, lim PenaltyI4BFGSAnalyticLimit
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if penaltyI4BFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				calls, ok := penaltyI4BFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PenaltyI4BFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !penaltyI4BFGSAnalyticFiniteVec(&g) {
-					return best.ending(PenaltyI4BFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = penaltyI4BFGSAnalyticVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func penaltyI4BFGSAnalyticMinimize(x0 [4]float64, lim PenaltyI4BFGSAnalyticLimit
 			case found.rising:
 				end = PenaltyI4BFGSAnalyticNoDecrease
 			case found.end == penaltyI4BFGSAnalyticSearchTiny && canSettle:
-				calls, ok := penaltyI4BFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PenaltyI4BFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !penaltyI4BFGSAnalyticFiniteVec(&g) {
-					return best.ending(PenaltyI4BFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = penaltyI4BFGSAnalyticVerifyStall, true
 				continue
 			case found.end == penaltyI4BFGSAnalyticSearchTiny:
 				end = PenaltyI4BFGSAnalyticStalled
@@ -490,51 +478,30 @@ func penaltyI4BFGSAnalyticCurvatureSafe(s, y *[4]float64) bool {
 	return sy > 0 && (sy/penaltyI4BFGSAnalyticDot(s, s))*(sy/penaltyI4BFGSAnalyticDot(y, y)) > penaltyI4BFGSAnalyticUnitRoundoff
 }
 
-// penaltyI4BFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func penaltyI4BFGSAnalyticGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *penaltyI4BFGSAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	penaltyI4BFGSAnalyticVerifyNothing = iota
+	penaltyI4BFGSAnalyticVerifyPass    // a difference gradient passed the test
+	penaltyI4BFGSAnalyticVerifyStall   // no step makes progress
+)
 
-// penaltyI4BFGSAnalyticGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func penaltyI4BFGSAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
-	scale := penaltyI4BFGSAnalyticLarger(penaltyI4BFGSAnalyticAbs(fx), 1)
-	for i := range g {
-		w := penaltyI4BFGSAnalyticLarger(penaltyI4BFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = penaltyI4BFGSAnalyticLarger(measure, (penaltyI4BFGSAnalyticAbs(g[i])+e[i])*w)
-		floor = penaltyI4BFGSAnalyticLarger(floor, e[i]*w)
+// penaltyI4BFGSAnalyticSettle prepares a verdict at x: with differences it confirms the
+// gradient (penaltyI4BFGSAnalyticConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (penaltyI4BFGSAnalyticRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func penaltyI4BFGSAnalyticSettle(x *[4]float64, fx float64, g, e *[4]float64, diffs *penaltyI4BFGSAnalyticDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if penaltyI4BFGSAnalyticDerivativeCost > 0 {
+		spent, ok := penaltyI4BFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// penaltyI4BFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func penaltyI4BFGSAnalyticLarger(a, b float64) float64 {
-	if a > b || a != a {
-		return a
+	if stall {
+		penaltyI4BFGSAnalyticRoundingFloor(x, g, e, diffs)
 	}
-	return b
-}
-
-// penaltyI4BFGSAnalyticAbs returns |v|.
-func penaltyI4BFGSAnalyticAbs(v float64) float64 {
-	if v < 0 {
-		return -v
-	}
-	return v
+	return calls, true
 }
 
 // penaltyI4BFGSAnalyticConfirmGradient recomputes a difference gradient at x before the run is
@@ -567,33 +534,20 @@ func penaltyI4BFGSAnalyticConfirmGradient(x *[4]float64, fx float64, g, e *[4]fl
 	return calls + 2*penaltyI4BFGSAnalyticDerivativeCost, true
 }
 
-// penaltyI4BFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func penaltyI4BFGSAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
-	for i := range s {
-		if !(penaltyI4BFGSAnalyticAbs(s[i]) <= tol*(penaltyI4BFGSAnalyticAbs(x[i])+1)) {
-			return false
-		}
+// penaltyI4BFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func penaltyI4BFGSAnalyticGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *penaltyI4BFGSAnalyticDifferences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// penaltyI4BFGSAnalyticSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (penaltyI4BFGSAnalyticConfirmGradient), then it adds to each error
-// bound the rounding floor of x (penaltyI4BFGSAnalyticRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func penaltyI4BFGSAnalyticSettle(x *[4]float64, fx float64, g, e *[4]float64, diffs *penaltyI4BFGSAnalyticDifferences, budget int) (int, bool) {
-	calls := 0
-	if penaltyI4BFGSAnalyticDerivativeCost > 0 {
-		spent, ok := penaltyI4BFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// penaltyI4BFGSAnalyticAbs returns |v|.
+func penaltyI4BFGSAnalyticAbs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	penaltyI4BFGSAnalyticRoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // penaltyI4BFGSAnalyticRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -636,6 +590,49 @@ func penaltyI4BFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
 // penaltyI4BFGSAnalyticSquareRoot returns √v.
 func penaltyI4BFGSAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// penaltyI4BFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func penaltyI4BFGSAnalyticLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// penaltyI4BFGSAnalyticGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func penaltyI4BFGSAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
+	scale := penaltyI4BFGSAnalyticLarger(penaltyI4BFGSAnalyticAbs(fx), 1)
+	for i := range g {
+		w := penaltyI4BFGSAnalyticLarger(penaltyI4BFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = penaltyI4BFGSAnalyticLarger(measure, (penaltyI4BFGSAnalyticAbs(g[i])+e[i])*w)
+		floor = penaltyI4BFGSAnalyticLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// penaltyI4BFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func penaltyI4BFGSAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
+	for i := range s {
+		if !(penaltyI4BFGSAnalyticAbs(s[i]) <= tol*(penaltyI4BFGSAnalyticAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // penaltyI4BFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the

@@ -190,11 +190,25 @@ func penaltyI4BFGSCentralMinimize(x0 [4]float64, lim PenaltyI4BFGSCentralLimits)
 	t, slope := float64(penaltyI4BFGSCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                      // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                            // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                               // whether g and e at x come from penaltyI4BFGSCentralConfirmGradient
+	confirmed := false                                               // whether g and e at x come from penaltyI4BFGSCentralConfirmGradient or settle
 	stalled := false                                                 // whether the run can make no more progress at x
 	retried := -1                                                    // the iteration whose stall was retried with recalibrated differences
+	verify := penaltyI4BFGSCentralVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != penaltyI4BFGSCentralVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see penaltyI4BFGSCentralConfirmGradient and settle).
+			calls, ok := penaltyI4BFGSCentralSettle(&x, fx, &g, &e, &diffs, verify == penaltyI4BFGSCentralVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(PenaltyI4BFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !penaltyI4BFGSCentralFiniteVec(&g) {
+				return best.ending(PenaltyI4BFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = penaltyI4BFGSCentralVerifyNothing, true
+		case !confirmed:
 			penaltyI4BFGSCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := penaltyI4BFGSCentralGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func penaltyI4BFGSCentralMinimize(x0 [4]float64, lim PenaltyI4BFGSCentralLimits)
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := penaltyI4BFGSCentralConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(PenaltyI4BFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !penaltyI4BFGSCentralFiniteVec(&g) {
-				return best.ending(PenaltyI4BFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = penaltyI4BFGSCentralVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func penaltyI4BFGSCentralMinimize(x0 [4]float64, lim PenaltyI4BFGSCentralLimits)
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if penaltyI4BFGSCentralStepWithin(&s, &x, lim.Step) {
-				calls, ok := penaltyI4BFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PenaltyI4BFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !penaltyI4BFGSCentralFiniteVec(&g) {
-					return best.ending(PenaltyI4BFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = penaltyI4BFGSCentralVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func penaltyI4BFGSCentralMinimize(x0 [4]float64, lim PenaltyI4BFGSCentralLimits)
 			case found.rising:
 				end = PenaltyI4BFGSCentralNoDecrease
 			case found.end == penaltyI4BFGSCentralSearchTiny && canSettle:
-				calls, ok := penaltyI4BFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PenaltyI4BFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !penaltyI4BFGSCentralFiniteVec(&g) {
-					return best.ending(PenaltyI4BFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = penaltyI4BFGSCentralVerifyStall, true
 				continue
 			case found.end == penaltyI4BFGSCentralSearchTiny:
 				end = PenaltyI4BFGSCentralStalled
@@ -633,37 +621,30 @@ func penaltyI4BFGSCentralCurvatureSafe(s, y *[4]float64) bool {
 	return sy > 0 && (sy/penaltyI4BFGSCentralDot(s, s))*(sy/penaltyI4BFGSCentralDot(y, y)) > penaltyI4BFGSCentralUnitRoundoff
 }
 
-// penaltyI4BFGSCentralGradientError bounds each central difference's error by twice its
-// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
-// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
-// in forwardError).
-func penaltyI4BFGSCentralGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *penaltyI4BFGSCentralDifferences) {
-	noise := penaltyI4BFGSCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h := diffs.ratio[i] * penaltyI4BFGSCentralLarger(1, penaltyI4BFGSCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	penaltyI4BFGSCentralVerifyNothing = iota
+	penaltyI4BFGSCentralVerifyPass    // a difference gradient passed the test
+	penaltyI4BFGSCentralVerifyStall   // no step makes progress
+)
 
-// penaltyI4BFGSCentralGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func penaltyI4BFGSCentralGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
-	scale := penaltyI4BFGSCentralLarger(penaltyI4BFGSCentralAbs(fx), 1)
-	for i := range g {
-		w := penaltyI4BFGSCentralLarger(penaltyI4BFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = penaltyI4BFGSCentralLarger(measure, (penaltyI4BFGSCentralAbs(g[i])+e[i])*w)
-		floor = penaltyI4BFGSCentralLarger(floor, e[i]*w)
+// penaltyI4BFGSCentralSettle prepares a verdict at x: with differences it confirms the
+// gradient (penaltyI4BFGSCentralConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (penaltyI4BFGSCentralRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func penaltyI4BFGSCentralSettle(x *[4]float64, fx float64, g, e *[4]float64, diffs *penaltyI4BFGSCentralDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if penaltyI4BFGSCentralDerivativeCost > 0 {
+		spent, ok := penaltyI4BFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
+	if stall {
+		penaltyI4BFGSCentralRoundingFloor(x, g, e, diffs)
+	}
+	return calls, true
 }
 
 // penaltyI4BFGSCentralConfirmGradient recomputes a difference gradient at x before the run is
@@ -696,33 +677,16 @@ func penaltyI4BFGSCentralConfirmGradient(x *[4]float64, fx float64, g, e *[4]flo
 	return calls + 2*penaltyI4BFGSCentralDerivativeCost, true
 }
 
-// penaltyI4BFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func penaltyI4BFGSCentralStepWithin(s, x *[4]float64, tol float64) bool {
-	for i := range s {
-		if !(penaltyI4BFGSCentralAbs(s[i]) <= tol*(penaltyI4BFGSCentralAbs(x[i])+1)) {
-			return false
-		}
+// penaltyI4BFGSCentralGradientError bounds each central difference's error by twice its
+// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
+// in forwardError).
+func penaltyI4BFGSCentralGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *penaltyI4BFGSCentralDifferences) {
+	noise := penaltyI4BFGSCentralNoiseLevel(x, fx, g)
+	for i := range e {
+		h := diffs.ratio[i] * penaltyI4BFGSCentralLarger(1, penaltyI4BFGSCentralAbs(x[i]))
+		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
 	}
-	return true
-}
-
-// penaltyI4BFGSCentralSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (penaltyI4BFGSCentralConfirmGradient), then it adds to each error
-// bound the rounding floor of x (penaltyI4BFGSCentralRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func penaltyI4BFGSCentralSettle(x *[4]float64, fx float64, g, e *[4]float64, diffs *penaltyI4BFGSCentralDifferences, budget int) (int, bool) {
-	calls := 0
-	if penaltyI4BFGSCentralDerivativeCost > 0 {
-		spent, ok := penaltyI4BFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
-	}
-	penaltyI4BFGSCentralRoundingFloor(x, g, e, diffs)
-	return calls, true
 }
 
 // penaltyI4BFGSCentralRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -743,6 +707,39 @@ func penaltyI4BFGSCentralRoundingFloor(x, g, e *[4]float64, diffs *penaltyI4BFGS
 // calibration, which penaltyI4BFGSCentralConfirmGradient has just made at x.
 func penaltyI4BFGSCentralDiagonalCurvature(x, g *[4]float64, diffs *penaltyI4BFGSCentralDifferences, h *[4]float64) {
 	*h = diffs.second
+}
+
+// penaltyI4BFGSCentralGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func penaltyI4BFGSCentralGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
+	scale := penaltyI4BFGSCentralLarger(penaltyI4BFGSCentralAbs(fx), 1)
+	for i := range g {
+		w := penaltyI4BFGSCentralLarger(penaltyI4BFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = penaltyI4BFGSCentralLarger(measure, (penaltyI4BFGSCentralAbs(g[i])+e[i])*w)
+		floor = penaltyI4BFGSCentralLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// penaltyI4BFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func penaltyI4BFGSCentralStepWithin(s, x *[4]float64, tol float64) bool {
+	for i := range s {
+		if !(penaltyI4BFGSCentralAbs(s[i]) <= tol*(penaltyI4BFGSCentralAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // penaltyI4BFGSCentralTinyStep returns the longest t for which the step t·d from x passes the

@@ -190,11 +190,25 @@ func penaltyI4CGAnalyticMinimize(x0 [4]float64, lim PenaltyI4CGAnalyticLimits) p
 	t, slope := float64(penaltyI4CGAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                     // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                           // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                              // whether g and e at x come from penaltyI4CGAnalyticConfirmGradient
+	confirmed := false                                              // whether g and e at x come from penaltyI4CGAnalyticConfirmGradient or settle
 	stalled := false                                                // whether the run can make no more progress at x
 	retried := -1                                                   // the iteration whose stall was retried with recalibrated differences
+	verify := penaltyI4CGAnalyticVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != penaltyI4CGAnalyticVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see penaltyI4CGAnalyticConfirmGradient and settle).
+			calls, ok := penaltyI4CGAnalyticSettle(&x, fx, &g, &e, &diffs, verify == penaltyI4CGAnalyticVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(PenaltyI4CGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !penaltyI4CGAnalyticFiniteVec(&g) {
+				return best.ending(PenaltyI4CGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = penaltyI4CGAnalyticVerifyNothing, true
+		case !confirmed:
 			penaltyI4CGAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := penaltyI4CGAnalyticGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func penaltyI4CGAnalyticMinimize(x0 [4]float64, lim PenaltyI4CGAnalyticLimits) p
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := penaltyI4CGAnalyticConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(PenaltyI4CGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !penaltyI4CGAnalyticFiniteVec(&g) {
-				return best.ending(PenaltyI4CGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = penaltyI4CGAnalyticVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func penaltyI4CGAnalyticMinimize(x0 [4]float64, lim PenaltyI4CGAnalyticLimits) p
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if penaltyI4CGAnalyticStepWithin(&s, &x, lim.Step) {
-				calls, ok := penaltyI4CGAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PenaltyI4CGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !penaltyI4CGAnalyticFiniteVec(&g) {
-					return best.ending(PenaltyI4CGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = penaltyI4CGAnalyticVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func penaltyI4CGAnalyticMinimize(x0 [4]float64, lim PenaltyI4CGAnalyticLimits) p
 			case found.rising:
 				end = PenaltyI4CGAnalyticNoDecrease
 			case found.end == penaltyI4CGAnalyticSearchTiny && canSettle:
-				calls, ok := penaltyI4CGAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PenaltyI4CGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !penaltyI4CGAnalyticFiniteVec(&g) {
-					return best.ending(PenaltyI4CGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = penaltyI4CGAnalyticVerifyStall, true
 				continue
 			case found.end == penaltyI4CGAnalyticSearchTiny:
 				end = PenaltyI4CGAnalyticStalled
@@ -482,41 +470,30 @@ func penaltyI4CGAnalyticScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
-// penaltyI4CGAnalyticGradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func penaltyI4CGAnalyticGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *penaltyI4CGAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	penaltyI4CGAnalyticVerifyNothing = iota
+	penaltyI4CGAnalyticVerifyPass    // a difference gradient passed the test
+	penaltyI4CGAnalyticVerifyStall   // no step makes progress
+)
 
-// penaltyI4CGAnalyticGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func penaltyI4CGAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
-	scale := penaltyI4CGAnalyticLarger(penaltyI4CGAnalyticAbs(fx), 1)
-	for i := range g {
-		w := penaltyI4CGAnalyticLarger(penaltyI4CGAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = penaltyI4CGAnalyticLarger(measure, (penaltyI4CGAnalyticAbs(g[i])+e[i])*w)
-		floor = penaltyI4CGAnalyticLarger(floor, e[i]*w)
+// penaltyI4CGAnalyticSettle prepares a verdict at x: with differences it confirms the
+// gradient (penaltyI4CGAnalyticConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (penaltyI4CGAnalyticRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func penaltyI4CGAnalyticSettle(x *[4]float64, fx float64, g, e *[4]float64, diffs *penaltyI4CGAnalyticDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if penaltyI4CGAnalyticDerivativeCost > 0 {
+		spent, ok := penaltyI4CGAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// penaltyI4CGAnalyticAbs returns |v|.
-func penaltyI4CGAnalyticAbs(v float64) float64 {
-	if v < 0 {
-		return -v
+	if stall {
+		penaltyI4CGAnalyticRoundingFloor(x, g, e, diffs)
 	}
-	return v
+	return calls, true
 }
 
 // penaltyI4CGAnalyticConfirmGradient recomputes a difference gradient at x before the run is
@@ -549,33 +526,20 @@ func penaltyI4CGAnalyticConfirmGradient(x *[4]float64, fx float64, g, e *[4]floa
 	return calls + 2*penaltyI4CGAnalyticDerivativeCost, true
 }
 
-// penaltyI4CGAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func penaltyI4CGAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
-	for i := range s {
-		if !(penaltyI4CGAnalyticAbs(s[i]) <= tol*(penaltyI4CGAnalyticAbs(x[i])+1)) {
-			return false
-		}
+// penaltyI4CGAnalyticGradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func penaltyI4CGAnalyticGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *penaltyI4CGAnalyticDifferences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// penaltyI4CGAnalyticSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (penaltyI4CGAnalyticConfirmGradient), then it adds to each error
-// bound the rounding floor of x (penaltyI4CGAnalyticRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func penaltyI4CGAnalyticSettle(x *[4]float64, fx float64, g, e *[4]float64, diffs *penaltyI4CGAnalyticDifferences, budget int) (int, bool) {
-	calls := 0
-	if penaltyI4CGAnalyticDerivativeCost > 0 {
-		spent, ok := penaltyI4CGAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// penaltyI4CGAnalyticAbs returns |v|.
+func penaltyI4CGAnalyticAbs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	penaltyI4CGAnalyticRoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // penaltyI4CGAnalyticRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -618,6 +582,39 @@ func penaltyI4CGAnalyticProbeStep(xi, h float64) (float64, float64) {
 // penaltyI4CGAnalyticSquareRoot returns √v.
 func penaltyI4CGAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// penaltyI4CGAnalyticGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func penaltyI4CGAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
+	scale := penaltyI4CGAnalyticLarger(penaltyI4CGAnalyticAbs(fx), 1)
+	for i := range g {
+		w := penaltyI4CGAnalyticLarger(penaltyI4CGAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = penaltyI4CGAnalyticLarger(measure, (penaltyI4CGAnalyticAbs(g[i])+e[i])*w)
+		floor = penaltyI4CGAnalyticLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// penaltyI4CGAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func penaltyI4CGAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
+	for i := range s {
+		if !(penaltyI4CGAnalyticAbs(s[i]) <= tol*(penaltyI4CGAnalyticAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // penaltyI4CGAnalyticTinyStep returns the longest t for which the step t·d from x passes the

@@ -191,11 +191,25 @@ func penaltyI4LBFGSAnalyticMinimize(x0 [4]float64, lim PenaltyI4LBFGSAnalyticLim
 	t, slope := float64(penaltyI4LBFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                        // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                              // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                 // whether g and e at x come from penaltyI4LBFGSAnalyticConfirmGradient
+	confirmed := false                                                 // whether g and e at x come from penaltyI4LBFGSAnalyticConfirmGradient or settle
 	stalled := false                                                   // whether the run can make no more progress at x
 	retried := -1                                                      // the iteration whose stall was retried with recalibrated differences
+	verify := penaltyI4LBFGSAnalyticVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != penaltyI4LBFGSAnalyticVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see penaltyI4LBFGSAnalyticConfirmGradient and settle).
+			calls, ok := penaltyI4LBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, verify == penaltyI4LBFGSAnalyticVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(PenaltyI4LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !penaltyI4LBFGSAnalyticFiniteVec(&g) {
+				return best.ending(PenaltyI4LBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = penaltyI4LBFGSAnalyticVerifyNothing, true
+		case !confirmed:
 			penaltyI4LBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := penaltyI4LBFGSAnalyticGradientMeasure(&g, &e, &x, fx)
@@ -213,17 +227,7 @@ func penaltyI4LBFGSAnalyticMinimize(x0 [4]float64, lim PenaltyI4LBFGSAnalyticLim
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := penaltyI4LBFGSAnalyticConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(PenaltyI4LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !penaltyI4LBFGSAnalyticFiniteVec(&g) {
-				return best.ending(PenaltyI4LBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = penaltyI4LBFGSAnalyticVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -241,15 +245,7 @@ func penaltyI4LBFGSAnalyticMinimize(x0 [4]float64, lim PenaltyI4LBFGSAnalyticLim
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if penaltyI4LBFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				calls, ok := penaltyI4LBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PenaltyI4LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !penaltyI4LBFGSAnalyticFiniteVec(&g) {
-					return best.ending(PenaltyI4LBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = penaltyI4LBFGSAnalyticVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -290,15 +286,7 @@ func penaltyI4LBFGSAnalyticMinimize(x0 [4]float64, lim PenaltyI4LBFGSAnalyticLim
 			case found.rising:
 				end = PenaltyI4LBFGSAnalyticNoDecrease
 			case found.end == penaltyI4LBFGSAnalyticSearchTiny && canSettle:
-				calls, ok := penaltyI4LBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PenaltyI4LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !penaltyI4LBFGSAnalyticFiniteVec(&g) {
-					return best.ending(PenaltyI4LBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = penaltyI4LBFGSAnalyticVerifyStall, true
 				continue
 			case found.end == penaltyI4LBFGSAnalyticSearchTiny:
 				end = PenaltyI4LBFGSAnalyticStalled
@@ -516,51 +504,30 @@ func penaltyI4LBFGSAnalyticCurvatureSafe(s, y *[4]float64) bool {
 	return sy > 0 && (sy/penaltyI4LBFGSAnalyticDot(s, s))*(sy/penaltyI4LBFGSAnalyticDot(y, y)) > penaltyI4LBFGSAnalyticUnitRoundoff
 }
 
-// penaltyI4LBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func penaltyI4LBFGSAnalyticGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *penaltyI4LBFGSAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	penaltyI4LBFGSAnalyticVerifyNothing = iota
+	penaltyI4LBFGSAnalyticVerifyPass    // a difference gradient passed the test
+	penaltyI4LBFGSAnalyticVerifyStall   // no step makes progress
+)
 
-// penaltyI4LBFGSAnalyticGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func penaltyI4LBFGSAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
-	scale := penaltyI4LBFGSAnalyticLarger(penaltyI4LBFGSAnalyticAbs(fx), 1)
-	for i := range g {
-		w := penaltyI4LBFGSAnalyticLarger(penaltyI4LBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = penaltyI4LBFGSAnalyticLarger(measure, (penaltyI4LBFGSAnalyticAbs(g[i])+e[i])*w)
-		floor = penaltyI4LBFGSAnalyticLarger(floor, e[i]*w)
+// penaltyI4LBFGSAnalyticSettle prepares a verdict at x: with differences it confirms the
+// gradient (penaltyI4LBFGSAnalyticConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (penaltyI4LBFGSAnalyticRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func penaltyI4LBFGSAnalyticSettle(x *[4]float64, fx float64, g, e *[4]float64, diffs *penaltyI4LBFGSAnalyticDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if penaltyI4LBFGSAnalyticDerivativeCost > 0 {
+		spent, ok := penaltyI4LBFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// penaltyI4LBFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func penaltyI4LBFGSAnalyticLarger(a, b float64) float64 {
-	if a > b || a != a {
-		return a
+	if stall {
+		penaltyI4LBFGSAnalyticRoundingFloor(x, g, e, diffs)
 	}
-	return b
-}
-
-// penaltyI4LBFGSAnalyticAbs returns |v|.
-func penaltyI4LBFGSAnalyticAbs(v float64) float64 {
-	if v < 0 {
-		return -v
-	}
-	return v
+	return calls, true
 }
 
 // penaltyI4LBFGSAnalyticConfirmGradient recomputes a difference gradient at x before the run is
@@ -593,33 +560,20 @@ func penaltyI4LBFGSAnalyticConfirmGradient(x *[4]float64, fx float64, g, e *[4]f
 	return calls + 2*penaltyI4LBFGSAnalyticDerivativeCost, true
 }
 
-// penaltyI4LBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func penaltyI4LBFGSAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
-	for i := range s {
-		if !(penaltyI4LBFGSAnalyticAbs(s[i]) <= tol*(penaltyI4LBFGSAnalyticAbs(x[i])+1)) {
-			return false
-		}
+// penaltyI4LBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func penaltyI4LBFGSAnalyticGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *penaltyI4LBFGSAnalyticDifferences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// penaltyI4LBFGSAnalyticSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (penaltyI4LBFGSAnalyticConfirmGradient), then it adds to each error
-// bound the rounding floor of x (penaltyI4LBFGSAnalyticRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func penaltyI4LBFGSAnalyticSettle(x *[4]float64, fx float64, g, e *[4]float64, diffs *penaltyI4LBFGSAnalyticDifferences, budget int) (int, bool) {
-	calls := 0
-	if penaltyI4LBFGSAnalyticDerivativeCost > 0 {
-		spent, ok := penaltyI4LBFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// penaltyI4LBFGSAnalyticAbs returns |v|.
+func penaltyI4LBFGSAnalyticAbs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	penaltyI4LBFGSAnalyticRoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // penaltyI4LBFGSAnalyticRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -662,6 +616,49 @@ func penaltyI4LBFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
 // penaltyI4LBFGSAnalyticSquareRoot returns √v.
 func penaltyI4LBFGSAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// penaltyI4LBFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func penaltyI4LBFGSAnalyticLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// penaltyI4LBFGSAnalyticGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func penaltyI4LBFGSAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
+	scale := penaltyI4LBFGSAnalyticLarger(penaltyI4LBFGSAnalyticAbs(fx), 1)
+	for i := range g {
+		w := penaltyI4LBFGSAnalyticLarger(penaltyI4LBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = penaltyI4LBFGSAnalyticLarger(measure, (penaltyI4LBFGSAnalyticAbs(g[i])+e[i])*w)
+		floor = penaltyI4LBFGSAnalyticLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// penaltyI4LBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func penaltyI4LBFGSAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
+	for i := range s {
+		if !(penaltyI4LBFGSAnalyticAbs(s[i]) <= tol*(penaltyI4LBFGSAnalyticAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // penaltyI4LBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the

@@ -191,11 +191,25 @@ func penaltyI4LBFGSCentralMinimize(x0 [4]float64, lim PenaltyI4LBFGSCentralLimit
 	t, slope := float64(penaltyI4LBFGSCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                       // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                             // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                // whether g and e at x come from penaltyI4LBFGSCentralConfirmGradient
+	confirmed := false                                                // whether g and e at x come from penaltyI4LBFGSCentralConfirmGradient or settle
 	stalled := false                                                  // whether the run can make no more progress at x
 	retried := -1                                                     // the iteration whose stall was retried with recalibrated differences
+	verify := penaltyI4LBFGSCentralVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != penaltyI4LBFGSCentralVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see penaltyI4LBFGSCentralConfirmGradient and settle).
+			calls, ok := penaltyI4LBFGSCentralSettle(&x, fx, &g, &e, &diffs, verify == penaltyI4LBFGSCentralVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(PenaltyI4LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !penaltyI4LBFGSCentralFiniteVec(&g) {
+				return best.ending(PenaltyI4LBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = penaltyI4LBFGSCentralVerifyNothing, true
+		case !confirmed:
 			penaltyI4LBFGSCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := penaltyI4LBFGSCentralGradientMeasure(&g, &e, &x, fx)
@@ -213,17 +227,7 @@ func penaltyI4LBFGSCentralMinimize(x0 [4]float64, lim PenaltyI4LBFGSCentralLimit
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := penaltyI4LBFGSCentralConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(PenaltyI4LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !penaltyI4LBFGSCentralFiniteVec(&g) {
-				return best.ending(PenaltyI4LBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = penaltyI4LBFGSCentralVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -241,15 +245,7 @@ func penaltyI4LBFGSCentralMinimize(x0 [4]float64, lim PenaltyI4LBFGSCentralLimit
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if penaltyI4LBFGSCentralStepWithin(&s, &x, lim.Step) {
-				calls, ok := penaltyI4LBFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PenaltyI4LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !penaltyI4LBFGSCentralFiniteVec(&g) {
-					return best.ending(PenaltyI4LBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = penaltyI4LBFGSCentralVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -290,15 +286,7 @@ func penaltyI4LBFGSCentralMinimize(x0 [4]float64, lim PenaltyI4LBFGSCentralLimit
 			case found.rising:
 				end = PenaltyI4LBFGSCentralNoDecrease
 			case found.end == penaltyI4LBFGSCentralSearchTiny && canSettle:
-				calls, ok := penaltyI4LBFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PenaltyI4LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !penaltyI4LBFGSCentralFiniteVec(&g) {
-					return best.ending(PenaltyI4LBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = penaltyI4LBFGSCentralVerifyStall, true
 				continue
 			case found.end == penaltyI4LBFGSCentralSearchTiny:
 				end = PenaltyI4LBFGSCentralStalled
@@ -659,37 +647,30 @@ func penaltyI4LBFGSCentralCurvatureSafe(s, y *[4]float64) bool {
 	return sy > 0 && (sy/penaltyI4LBFGSCentralDot(s, s))*(sy/penaltyI4LBFGSCentralDot(y, y)) > penaltyI4LBFGSCentralUnitRoundoff
 }
 
-// penaltyI4LBFGSCentralGradientError bounds each central difference's error by twice its
-// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
-// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
-// in forwardError).
-func penaltyI4LBFGSCentralGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *penaltyI4LBFGSCentralDifferences) {
-	noise := penaltyI4LBFGSCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h := diffs.ratio[i] * penaltyI4LBFGSCentralLarger(1, penaltyI4LBFGSCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	penaltyI4LBFGSCentralVerifyNothing = iota
+	penaltyI4LBFGSCentralVerifyPass    // a difference gradient passed the test
+	penaltyI4LBFGSCentralVerifyStall   // no step makes progress
+)
 
-// penaltyI4LBFGSCentralGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func penaltyI4LBFGSCentralGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
-	scale := penaltyI4LBFGSCentralLarger(penaltyI4LBFGSCentralAbs(fx), 1)
-	for i := range g {
-		w := penaltyI4LBFGSCentralLarger(penaltyI4LBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = penaltyI4LBFGSCentralLarger(measure, (penaltyI4LBFGSCentralAbs(g[i])+e[i])*w)
-		floor = penaltyI4LBFGSCentralLarger(floor, e[i]*w)
+// penaltyI4LBFGSCentralSettle prepares a verdict at x: with differences it confirms the
+// gradient (penaltyI4LBFGSCentralConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (penaltyI4LBFGSCentralRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func penaltyI4LBFGSCentralSettle(x *[4]float64, fx float64, g, e *[4]float64, diffs *penaltyI4LBFGSCentralDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if penaltyI4LBFGSCentralDerivativeCost > 0 {
+		spent, ok := penaltyI4LBFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
+	if stall {
+		penaltyI4LBFGSCentralRoundingFloor(x, g, e, diffs)
+	}
+	return calls, true
 }
 
 // penaltyI4LBFGSCentralConfirmGradient recomputes a difference gradient at x before the run is
@@ -722,33 +703,16 @@ func penaltyI4LBFGSCentralConfirmGradient(x *[4]float64, fx float64, g, e *[4]fl
 	return calls + 2*penaltyI4LBFGSCentralDerivativeCost, true
 }
 
-// penaltyI4LBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func penaltyI4LBFGSCentralStepWithin(s, x *[4]float64, tol float64) bool {
-	for i := range s {
-		if !(penaltyI4LBFGSCentralAbs(s[i]) <= tol*(penaltyI4LBFGSCentralAbs(x[i])+1)) {
-			return false
-		}
+// penaltyI4LBFGSCentralGradientError bounds each central difference's error by twice its
+// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
+// in forwardError).
+func penaltyI4LBFGSCentralGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *penaltyI4LBFGSCentralDifferences) {
+	noise := penaltyI4LBFGSCentralNoiseLevel(x, fx, g)
+	for i := range e {
+		h := diffs.ratio[i] * penaltyI4LBFGSCentralLarger(1, penaltyI4LBFGSCentralAbs(x[i]))
+		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
 	}
-	return true
-}
-
-// penaltyI4LBFGSCentralSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (penaltyI4LBFGSCentralConfirmGradient), then it adds to each error
-// bound the rounding floor of x (penaltyI4LBFGSCentralRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func penaltyI4LBFGSCentralSettle(x *[4]float64, fx float64, g, e *[4]float64, diffs *penaltyI4LBFGSCentralDifferences, budget int) (int, bool) {
-	calls := 0
-	if penaltyI4LBFGSCentralDerivativeCost > 0 {
-		spent, ok := penaltyI4LBFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
-	}
-	penaltyI4LBFGSCentralRoundingFloor(x, g, e, diffs)
-	return calls, true
 }
 
 // penaltyI4LBFGSCentralRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -769,6 +733,39 @@ func penaltyI4LBFGSCentralRoundingFloor(x, g, e *[4]float64, diffs *penaltyI4LBF
 // calibration, which penaltyI4LBFGSCentralConfirmGradient has just made at x.
 func penaltyI4LBFGSCentralDiagonalCurvature(x, g *[4]float64, diffs *penaltyI4LBFGSCentralDifferences, h *[4]float64) {
 	*h = diffs.second
+}
+
+// penaltyI4LBFGSCentralGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func penaltyI4LBFGSCentralGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
+	scale := penaltyI4LBFGSCentralLarger(penaltyI4LBFGSCentralAbs(fx), 1)
+	for i := range g {
+		w := penaltyI4LBFGSCentralLarger(penaltyI4LBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = penaltyI4LBFGSCentralLarger(measure, (penaltyI4LBFGSCentralAbs(g[i])+e[i])*w)
+		floor = penaltyI4LBFGSCentralLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// penaltyI4LBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func penaltyI4LBFGSCentralStepWithin(s, x *[4]float64, tol float64) bool {
+	for i := range s {
+		if !(penaltyI4LBFGSCentralAbs(s[i]) <= tol*(penaltyI4LBFGSCentralAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // penaltyI4LBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the

@@ -190,11 +190,25 @@ func penaltyII10BFGSAnalyticMinimize(x0 [10]float64, lim PenaltyII10BFGSAnalytic
 	t, slope := float64(penaltyII10BFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                         // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                               // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                  // whether g and e at x come from penaltyII10BFGSAnalyticConfirmGradient
+	confirmed := false                                                  // whether g and e at x come from penaltyII10BFGSAnalyticConfirmGradient or settle
 	stalled := false                                                    // whether the run can make no more progress at x
 	retried := -1                                                       // the iteration whose stall was retried with recalibrated differences
+	verify := penaltyII10BFGSAnalyticVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != penaltyII10BFGSAnalyticVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see penaltyII10BFGSAnalyticConfirmGradient and settle).
+			calls, ok := penaltyII10BFGSAnalyticSettle(&x, fx, &g, &e, &diffs, verify == penaltyII10BFGSAnalyticVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(PenaltyII10BFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !penaltyII10BFGSAnalyticFiniteVec(&g) {
+				return best.ending(PenaltyII10BFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = penaltyII10BFGSAnalyticVerifyNothing, true
+		case !confirmed:
 			penaltyII10BFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := penaltyII10BFGSAnalyticGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func penaltyII10BFGSAnalyticMinimize(x0 [10]float64, lim PenaltyII10BFGSAnalytic
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := penaltyII10BFGSAnalyticConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(PenaltyII10BFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !penaltyII10BFGSAnalyticFiniteVec(&g) {
-				return best.ending(PenaltyII10BFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = penaltyII10BFGSAnalyticVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func penaltyII10BFGSAnalyticMinimize(x0 [10]float64, lim PenaltyII10BFGSAnalytic
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if penaltyII10BFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				calls, ok := penaltyII10BFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PenaltyII10BFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !penaltyII10BFGSAnalyticFiniteVec(&g) {
-					return best.ending(PenaltyII10BFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = penaltyII10BFGSAnalyticVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func penaltyII10BFGSAnalyticMinimize(x0 [10]float64, lim PenaltyII10BFGSAnalytic
 			case found.rising:
 				end = PenaltyII10BFGSAnalyticNoDecrease
 			case found.end == penaltyII10BFGSAnalyticSearchTiny && canSettle:
-				calls, ok := penaltyII10BFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PenaltyII10BFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !penaltyII10BFGSAnalyticFiniteVec(&g) {
-					return best.ending(PenaltyII10BFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = penaltyII10BFGSAnalyticVerifyStall, true
 				continue
 			case found.end == penaltyII10BFGSAnalyticSearchTiny:
 				end = PenaltyII10BFGSAnalyticStalled
@@ -490,51 +478,30 @@ func penaltyII10BFGSAnalyticCurvatureSafe(s, y *[10]float64) bool {
 	return sy > 0 && (sy/penaltyII10BFGSAnalyticDot(s, s))*(sy/penaltyII10BFGSAnalyticDot(y, y)) > penaltyII10BFGSAnalyticUnitRoundoff
 }
 
-// penaltyII10BFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func penaltyII10BFGSAnalyticGradientError(x *[10]float64, fx float64, g, e *[10]float64, diffs *penaltyII10BFGSAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	penaltyII10BFGSAnalyticVerifyNothing = iota
+	penaltyII10BFGSAnalyticVerifyPass    // a difference gradient passed the test
+	penaltyII10BFGSAnalyticVerifyStall   // no step makes progress
+)
 
-// penaltyII10BFGSAnalyticGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func penaltyII10BFGSAnalyticGradientMeasure(g, e, x *[10]float64, fx float64) (measure, floor float64) {
-	scale := penaltyII10BFGSAnalyticLarger(penaltyII10BFGSAnalyticAbs(fx), 1)
-	for i := range g {
-		w := penaltyII10BFGSAnalyticLarger(penaltyII10BFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = penaltyII10BFGSAnalyticLarger(measure, (penaltyII10BFGSAnalyticAbs(g[i])+e[i])*w)
-		floor = penaltyII10BFGSAnalyticLarger(floor, e[i]*w)
+// penaltyII10BFGSAnalyticSettle prepares a verdict at x: with differences it confirms the
+// gradient (penaltyII10BFGSAnalyticConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (penaltyII10BFGSAnalyticRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func penaltyII10BFGSAnalyticSettle(x *[10]float64, fx float64, g, e *[10]float64, diffs *penaltyII10BFGSAnalyticDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if penaltyII10BFGSAnalyticDerivativeCost > 0 {
+		spent, ok := penaltyII10BFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// penaltyII10BFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func penaltyII10BFGSAnalyticLarger(a, b float64) float64 {
-	if a > b || a != a {
-		return a
+	if stall {
+		penaltyII10BFGSAnalyticRoundingFloor(x, g, e, diffs)
 	}
-	return b
-}
-
-// penaltyII10BFGSAnalyticAbs returns |v|.
-func penaltyII10BFGSAnalyticAbs(v float64) float64 {
-	if v < 0 {
-		return -v
-	}
-	return v
+	return calls, true
 }
 
 // penaltyII10BFGSAnalyticConfirmGradient recomputes a difference gradient at x before the run is
@@ -567,33 +534,20 @@ func penaltyII10BFGSAnalyticConfirmGradient(x *[10]float64, fx float64, g, e *[1
 	return calls + 2*penaltyII10BFGSAnalyticDerivativeCost, true
 }
 
-// penaltyII10BFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func penaltyII10BFGSAnalyticStepWithin(s, x *[10]float64, tol float64) bool {
-	for i := range s {
-		if !(penaltyII10BFGSAnalyticAbs(s[i]) <= tol*(penaltyII10BFGSAnalyticAbs(x[i])+1)) {
-			return false
-		}
+// penaltyII10BFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func penaltyII10BFGSAnalyticGradientError(x *[10]float64, fx float64, g, e *[10]float64, diffs *penaltyII10BFGSAnalyticDifferences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// penaltyII10BFGSAnalyticSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (penaltyII10BFGSAnalyticConfirmGradient), then it adds to each error
-// bound the rounding floor of x (penaltyII10BFGSAnalyticRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func penaltyII10BFGSAnalyticSettle(x *[10]float64, fx float64, g, e *[10]float64, diffs *penaltyII10BFGSAnalyticDifferences, budget int) (int, bool) {
-	calls := 0
-	if penaltyII10BFGSAnalyticDerivativeCost > 0 {
-		spent, ok := penaltyII10BFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// penaltyII10BFGSAnalyticAbs returns |v|.
+func penaltyII10BFGSAnalyticAbs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	penaltyII10BFGSAnalyticRoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // penaltyII10BFGSAnalyticRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -636,6 +590,49 @@ func penaltyII10BFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
 // penaltyII10BFGSAnalyticSquareRoot returns √v.
 func penaltyII10BFGSAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// penaltyII10BFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func penaltyII10BFGSAnalyticLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// penaltyII10BFGSAnalyticGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func penaltyII10BFGSAnalyticGradientMeasure(g, e, x *[10]float64, fx float64) (measure, floor float64) {
+	scale := penaltyII10BFGSAnalyticLarger(penaltyII10BFGSAnalyticAbs(fx), 1)
+	for i := range g {
+		w := penaltyII10BFGSAnalyticLarger(penaltyII10BFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = penaltyII10BFGSAnalyticLarger(measure, (penaltyII10BFGSAnalyticAbs(g[i])+e[i])*w)
+		floor = penaltyII10BFGSAnalyticLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// penaltyII10BFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func penaltyII10BFGSAnalyticStepWithin(s, x *[10]float64, tol float64) bool {
+	for i := range s {
+		if !(penaltyII10BFGSAnalyticAbs(s[i]) <= tol*(penaltyII10BFGSAnalyticAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // penaltyII10BFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the

@@ -190,11 +190,25 @@ func penaltyII10CGCentralMinimize(x0 [10]float64, lim PenaltyII10CGCentralLimits
 	t, slope := float64(penaltyII10CGCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                      // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                            // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                               // whether g and e at x come from penaltyII10CGCentralConfirmGradient
+	confirmed := false                                               // whether g and e at x come from penaltyII10CGCentralConfirmGradient or settle
 	stalled := false                                                 // whether the run can make no more progress at x
 	retried := -1                                                    // the iteration whose stall was retried with recalibrated differences
+	verify := penaltyII10CGCentralVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != penaltyII10CGCentralVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see penaltyII10CGCentralConfirmGradient and settle).
+			calls, ok := penaltyII10CGCentralSettle(&x, fx, &g, &e, &diffs, verify == penaltyII10CGCentralVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(PenaltyII10CGCentralOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !penaltyII10CGCentralFiniteVec(&g) {
+				return best.ending(PenaltyII10CGCentralNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = penaltyII10CGCentralVerifyNothing, true
+		case !confirmed:
 			penaltyII10CGCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := penaltyII10CGCentralGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func penaltyII10CGCentralMinimize(x0 [10]float64, lim PenaltyII10CGCentralLimits
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := penaltyII10CGCentralConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(PenaltyII10CGCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !penaltyII10CGCentralFiniteVec(&g) {
-				return best.ending(PenaltyII10CGCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = penaltyII10CGCentralVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func penaltyII10CGCentralMinimize(x0 [10]float64, lim PenaltyII10CGCentralLimits
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if penaltyII10CGCentralStepWithin(&s, &x, lim.Step) {
-				calls, ok := penaltyII10CGCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PenaltyII10CGCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !penaltyII10CGCentralFiniteVec(&g) {
-					return best.ending(PenaltyII10CGCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = penaltyII10CGCentralVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func penaltyII10CGCentralMinimize(x0 [10]float64, lim PenaltyII10CGCentralLimits
 			case found.rising:
 				end = PenaltyII10CGCentralNoDecrease
 			case found.end == penaltyII10CGCentralSearchTiny && canSettle:
-				calls, ok := penaltyII10CGCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PenaltyII10CGCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !penaltyII10CGCentralFiniteVec(&g) {
-					return best.ending(PenaltyII10CGCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = penaltyII10CGCentralVerifyStall, true
 				continue
 			case found.end == penaltyII10CGCentralSearchTiny:
 				end = PenaltyII10CGCentralStalled
@@ -615,37 +603,30 @@ func penaltyII10CGCentralScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
-// penaltyII10CGCentralGradientError bounds each central difference's error by twice its
-// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
-// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
-// in forwardError).
-func penaltyII10CGCentralGradientError(x *[10]float64, fx float64, g, e *[10]float64, diffs *penaltyII10CGCentralDifferences) {
-	noise := penaltyII10CGCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h := diffs.ratio[i] * penaltyII10CGCentralLarger(1, penaltyII10CGCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	penaltyII10CGCentralVerifyNothing = iota
+	penaltyII10CGCentralVerifyPass    // a difference gradient passed the test
+	penaltyII10CGCentralVerifyStall   // no step makes progress
+)
 
-// penaltyII10CGCentralGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func penaltyII10CGCentralGradientMeasure(g, e, x *[10]float64, fx float64) (measure, floor float64) {
-	scale := penaltyII10CGCentralLarger(penaltyII10CGCentralAbs(fx), 1)
-	for i := range g {
-		w := penaltyII10CGCentralLarger(penaltyII10CGCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = penaltyII10CGCentralLarger(measure, (penaltyII10CGCentralAbs(g[i])+e[i])*w)
-		floor = penaltyII10CGCentralLarger(floor, e[i]*w)
+// penaltyII10CGCentralSettle prepares a verdict at x: with differences it confirms the
+// gradient (penaltyII10CGCentralConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (penaltyII10CGCentralRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func penaltyII10CGCentralSettle(x *[10]float64, fx float64, g, e *[10]float64, diffs *penaltyII10CGCentralDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if penaltyII10CGCentralDerivativeCost > 0 {
+		spent, ok := penaltyII10CGCentralConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
+	if stall {
+		penaltyII10CGCentralRoundingFloor(x, g, e, diffs)
+	}
+	return calls, true
 }
 
 // penaltyII10CGCentralConfirmGradient recomputes a difference gradient at x before the run is
@@ -678,33 +659,16 @@ func penaltyII10CGCentralConfirmGradient(x *[10]float64, fx float64, g, e *[10]f
 	return calls + 2*penaltyII10CGCentralDerivativeCost, true
 }
 
-// penaltyII10CGCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func penaltyII10CGCentralStepWithin(s, x *[10]float64, tol float64) bool {
-	for i := range s {
-		if !(penaltyII10CGCentralAbs(s[i]) <= tol*(penaltyII10CGCentralAbs(x[i])+1)) {
-			return false
-		}
+// penaltyII10CGCentralGradientError bounds each central difference's error by twice its
+// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
+// in forwardError).
+func penaltyII10CGCentralGradientError(x *[10]float64, fx float64, g, e *[10]float64, diffs *penaltyII10CGCentralDifferences) {
+	noise := penaltyII10CGCentralNoiseLevel(x, fx, g)
+	for i := range e {
+		h := diffs.ratio[i] * penaltyII10CGCentralLarger(1, penaltyII10CGCentralAbs(x[i]))
+		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
 	}
-	return true
-}
-
-// penaltyII10CGCentralSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (penaltyII10CGCentralConfirmGradient), then it adds to each error
-// bound the rounding floor of x (penaltyII10CGCentralRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func penaltyII10CGCentralSettle(x *[10]float64, fx float64, g, e *[10]float64, diffs *penaltyII10CGCentralDifferences, budget int) (int, bool) {
-	calls := 0
-	if penaltyII10CGCentralDerivativeCost > 0 {
-		spent, ok := penaltyII10CGCentralConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
-	}
-	penaltyII10CGCentralRoundingFloor(x, g, e, diffs)
-	return calls, true
 }
 
 // penaltyII10CGCentralRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -725,6 +689,39 @@ func penaltyII10CGCentralRoundingFloor(x, g, e *[10]float64, diffs *penaltyII10C
 // calibration, which penaltyII10CGCentralConfirmGradient has just made at x.
 func penaltyII10CGCentralDiagonalCurvature(x, g *[10]float64, diffs *penaltyII10CGCentralDifferences, h *[10]float64) {
 	*h = diffs.second
+}
+
+// penaltyII10CGCentralGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func penaltyII10CGCentralGradientMeasure(g, e, x *[10]float64, fx float64) (measure, floor float64) {
+	scale := penaltyII10CGCentralLarger(penaltyII10CGCentralAbs(fx), 1)
+	for i := range g {
+		w := penaltyII10CGCentralLarger(penaltyII10CGCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = penaltyII10CGCentralLarger(measure, (penaltyII10CGCentralAbs(g[i])+e[i])*w)
+		floor = penaltyII10CGCentralLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// penaltyII10CGCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func penaltyII10CGCentralStepWithin(s, x *[10]float64, tol float64) bool {
+	for i := range s {
+		if !(penaltyII10CGCentralAbs(s[i]) <= tol*(penaltyII10CGCentralAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // penaltyII10CGCentralTinyStep returns the longest t for which the step t·d from x passes the

@@ -191,11 +191,25 @@ func penaltyII10LBFGSAnalyticMinimize(x0 [10]float64, lim PenaltyII10LBFGSAnalyt
 	t, slope := float64(penaltyII10LBFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                          // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                                // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                   // whether g and e at x come from penaltyII10LBFGSAnalyticConfirmGradient
+	confirmed := false                                                   // whether g and e at x come from penaltyII10LBFGSAnalyticConfirmGradient or settle
 	stalled := false                                                     // whether the run can make no more progress at x
 	retried := -1                                                        // the iteration whose stall was retried with recalibrated differences
+	verify := penaltyII10LBFGSAnalyticVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != penaltyII10LBFGSAnalyticVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see penaltyII10LBFGSAnalyticConfirmGradient and settle).
+			calls, ok := penaltyII10LBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, verify == penaltyII10LBFGSAnalyticVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(PenaltyII10LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !penaltyII10LBFGSAnalyticFiniteVec(&g) {
+				return best.ending(PenaltyII10LBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = penaltyII10LBFGSAnalyticVerifyNothing, true
+		case !confirmed:
 			penaltyII10LBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := penaltyII10LBFGSAnalyticGradientMeasure(&g, &e, &x, fx)
@@ -213,17 +227,7 @@ func penaltyII10LBFGSAnalyticMinimize(x0 [10]float64, lim PenaltyII10LBFGSAnalyt
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := penaltyII10LBFGSAnalyticConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(PenaltyII10LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !penaltyII10LBFGSAnalyticFiniteVec(&g) {
-				return best.ending(PenaltyII10LBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = penaltyII10LBFGSAnalyticVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -241,15 +245,7 @@ func penaltyII10LBFGSAnalyticMinimize(x0 [10]float64, lim PenaltyII10LBFGSAnalyt
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if penaltyII10LBFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				calls, ok := penaltyII10LBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PenaltyII10LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !penaltyII10LBFGSAnalyticFiniteVec(&g) {
-					return best.ending(PenaltyII10LBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = penaltyII10LBFGSAnalyticVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -290,15 +286,7 @@ func penaltyII10LBFGSAnalyticMinimize(x0 [10]float64, lim PenaltyII10LBFGSAnalyt
 			case found.rising:
 				end = PenaltyII10LBFGSAnalyticNoDecrease
 			case found.end == penaltyII10LBFGSAnalyticSearchTiny && canSettle:
-				calls, ok := penaltyII10LBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PenaltyII10LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !penaltyII10LBFGSAnalyticFiniteVec(&g) {
-					return best.ending(PenaltyII10LBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = penaltyII10LBFGSAnalyticVerifyStall, true
 				continue
 			case found.end == penaltyII10LBFGSAnalyticSearchTiny:
 				end = PenaltyII10LBFGSAnalyticStalled
@@ -516,51 +504,30 @@ func penaltyII10LBFGSAnalyticCurvatureSafe(s, y *[10]float64) bool {
 	return sy > 0 && (sy/penaltyII10LBFGSAnalyticDot(s, s))*(sy/penaltyII10LBFGSAnalyticDot(y, y)) > penaltyII10LBFGSAnalyticUnitRoundoff
 }
 
-// penaltyII10LBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func penaltyII10LBFGSAnalyticGradientError(x *[10]float64, fx float64, g, e *[10]float64, diffs *penaltyII10LBFGSAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	penaltyII10LBFGSAnalyticVerifyNothing = iota
+	penaltyII10LBFGSAnalyticVerifyPass    // a difference gradient passed the test
+	penaltyII10LBFGSAnalyticVerifyStall   // no step makes progress
+)
 
-// penaltyII10LBFGSAnalyticGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func penaltyII10LBFGSAnalyticGradientMeasure(g, e, x *[10]float64, fx float64) (measure, floor float64) {
-	scale := penaltyII10LBFGSAnalyticLarger(penaltyII10LBFGSAnalyticAbs(fx), 1)
-	for i := range g {
-		w := penaltyII10LBFGSAnalyticLarger(penaltyII10LBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = penaltyII10LBFGSAnalyticLarger(measure, (penaltyII10LBFGSAnalyticAbs(g[i])+e[i])*w)
-		floor = penaltyII10LBFGSAnalyticLarger(floor, e[i]*w)
+// penaltyII10LBFGSAnalyticSettle prepares a verdict at x: with differences it confirms the
+// gradient (penaltyII10LBFGSAnalyticConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (penaltyII10LBFGSAnalyticRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func penaltyII10LBFGSAnalyticSettle(x *[10]float64, fx float64, g, e *[10]float64, diffs *penaltyII10LBFGSAnalyticDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if penaltyII10LBFGSAnalyticDerivativeCost > 0 {
+		spent, ok := penaltyII10LBFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// penaltyII10LBFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func penaltyII10LBFGSAnalyticLarger(a, b float64) float64 {
-	if a > b || a != a {
-		return a
+	if stall {
+		penaltyII10LBFGSAnalyticRoundingFloor(x, g, e, diffs)
 	}
-	return b
-}
-
-// penaltyII10LBFGSAnalyticAbs returns |v|.
-func penaltyII10LBFGSAnalyticAbs(v float64) float64 {
-	if v < 0 {
-		return -v
-	}
-	return v
+	return calls, true
 }
 
 // penaltyII10LBFGSAnalyticConfirmGradient recomputes a difference gradient at x before the run is
@@ -593,33 +560,20 @@ func penaltyII10LBFGSAnalyticConfirmGradient(x *[10]float64, fx float64, g, e *[
 	return calls + 2*penaltyII10LBFGSAnalyticDerivativeCost, true
 }
 
-// penaltyII10LBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func penaltyII10LBFGSAnalyticStepWithin(s, x *[10]float64, tol float64) bool {
-	for i := range s {
-		if !(penaltyII10LBFGSAnalyticAbs(s[i]) <= tol*(penaltyII10LBFGSAnalyticAbs(x[i])+1)) {
-			return false
-		}
+// penaltyII10LBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func penaltyII10LBFGSAnalyticGradientError(x *[10]float64, fx float64, g, e *[10]float64, diffs *penaltyII10LBFGSAnalyticDifferences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// penaltyII10LBFGSAnalyticSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (penaltyII10LBFGSAnalyticConfirmGradient), then it adds to each error
-// bound the rounding floor of x (penaltyII10LBFGSAnalyticRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func penaltyII10LBFGSAnalyticSettle(x *[10]float64, fx float64, g, e *[10]float64, diffs *penaltyII10LBFGSAnalyticDifferences, budget int) (int, bool) {
-	calls := 0
-	if penaltyII10LBFGSAnalyticDerivativeCost > 0 {
-		spent, ok := penaltyII10LBFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// penaltyII10LBFGSAnalyticAbs returns |v|.
+func penaltyII10LBFGSAnalyticAbs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	penaltyII10LBFGSAnalyticRoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // penaltyII10LBFGSAnalyticRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -662,6 +616,49 @@ func penaltyII10LBFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
 // penaltyII10LBFGSAnalyticSquareRoot returns √v.
 func penaltyII10LBFGSAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// penaltyII10LBFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func penaltyII10LBFGSAnalyticLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// penaltyII10LBFGSAnalyticGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func penaltyII10LBFGSAnalyticGradientMeasure(g, e, x *[10]float64, fx float64) (measure, floor float64) {
+	scale := penaltyII10LBFGSAnalyticLarger(penaltyII10LBFGSAnalyticAbs(fx), 1)
+	for i := range g {
+		w := penaltyII10LBFGSAnalyticLarger(penaltyII10LBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = penaltyII10LBFGSAnalyticLarger(measure, (penaltyII10LBFGSAnalyticAbs(g[i])+e[i])*w)
+		floor = penaltyII10LBFGSAnalyticLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// penaltyII10LBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func penaltyII10LBFGSAnalyticStepWithin(s, x *[10]float64, tol float64) bool {
+	for i := range s {
+		if !(penaltyII10LBFGSAnalyticAbs(s[i]) <= tol*(penaltyII10LBFGSAnalyticAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // penaltyII10LBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the

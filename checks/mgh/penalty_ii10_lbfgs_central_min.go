@@ -191,11 +191,25 @@ func penaltyII10LBFGSCentralMinimize(x0 [10]float64, lim PenaltyII10LBFGSCentral
 	t, slope := float64(penaltyII10LBFGSCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                         // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                               // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                  // whether g and e at x come from penaltyII10LBFGSCentralConfirmGradient
+	confirmed := false                                                  // whether g and e at x come from penaltyII10LBFGSCentralConfirmGradient or settle
 	stalled := false                                                    // whether the run can make no more progress at x
 	retried := -1                                                       // the iteration whose stall was retried with recalibrated differences
+	verify := penaltyII10LBFGSCentralVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != penaltyII10LBFGSCentralVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see penaltyII10LBFGSCentralConfirmGradient and settle).
+			calls, ok := penaltyII10LBFGSCentralSettle(&x, fx, &g, &e, &diffs, verify == penaltyII10LBFGSCentralVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(PenaltyII10LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !penaltyII10LBFGSCentralFiniteVec(&g) {
+				return best.ending(PenaltyII10LBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = penaltyII10LBFGSCentralVerifyNothing, true
+		case !confirmed:
 			penaltyII10LBFGSCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := penaltyII10LBFGSCentralGradientMeasure(&g, &e, &x, fx)
@@ -213,17 +227,7 @@ func penaltyII10LBFGSCentralMinimize(x0 [10]float64, lim PenaltyII10LBFGSCentral
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := penaltyII10LBFGSCentralConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(PenaltyII10LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !penaltyII10LBFGSCentralFiniteVec(&g) {
-				return best.ending(PenaltyII10LBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = penaltyII10LBFGSCentralVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -241,15 +245,7 @@ func penaltyII10LBFGSCentralMinimize(x0 [10]float64, lim PenaltyII10LBFGSCentral
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if penaltyII10LBFGSCentralStepWithin(&s, &x, lim.Step) {
-				calls, ok := penaltyII10LBFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PenaltyII10LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !penaltyII10LBFGSCentralFiniteVec(&g) {
-					return best.ending(PenaltyII10LBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = penaltyII10LBFGSCentralVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -290,15 +286,7 @@ func penaltyII10LBFGSCentralMinimize(x0 [10]float64, lim PenaltyII10LBFGSCentral
 			case found.rising:
 				end = PenaltyII10LBFGSCentralNoDecrease
 			case found.end == penaltyII10LBFGSCentralSearchTiny && canSettle:
-				calls, ok := penaltyII10LBFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PenaltyII10LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !penaltyII10LBFGSCentralFiniteVec(&g) {
-					return best.ending(PenaltyII10LBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = penaltyII10LBFGSCentralVerifyStall, true
 				continue
 			case found.end == penaltyII10LBFGSCentralSearchTiny:
 				end = PenaltyII10LBFGSCentralStalled
@@ -659,37 +647,30 @@ func penaltyII10LBFGSCentralCurvatureSafe(s, y *[10]float64) bool {
 	return sy > 0 && (sy/penaltyII10LBFGSCentralDot(s, s))*(sy/penaltyII10LBFGSCentralDot(y, y)) > penaltyII10LBFGSCentralUnitRoundoff
 }
 
-// penaltyII10LBFGSCentralGradientError bounds each central difference's error by twice its
-// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
-// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
-// in forwardError).
-func penaltyII10LBFGSCentralGradientError(x *[10]float64, fx float64, g, e *[10]float64, diffs *penaltyII10LBFGSCentralDifferences) {
-	noise := penaltyII10LBFGSCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h := diffs.ratio[i] * penaltyII10LBFGSCentralLarger(1, penaltyII10LBFGSCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	penaltyII10LBFGSCentralVerifyNothing = iota
+	penaltyII10LBFGSCentralVerifyPass    // a difference gradient passed the test
+	penaltyII10LBFGSCentralVerifyStall   // no step makes progress
+)
 
-// penaltyII10LBFGSCentralGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func penaltyII10LBFGSCentralGradientMeasure(g, e, x *[10]float64, fx float64) (measure, floor float64) {
-	scale := penaltyII10LBFGSCentralLarger(penaltyII10LBFGSCentralAbs(fx), 1)
-	for i := range g {
-		w := penaltyII10LBFGSCentralLarger(penaltyII10LBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = penaltyII10LBFGSCentralLarger(measure, (penaltyII10LBFGSCentralAbs(g[i])+e[i])*w)
-		floor = penaltyII10LBFGSCentralLarger(floor, e[i]*w)
+// penaltyII10LBFGSCentralSettle prepares a verdict at x: with differences it confirms the
+// gradient (penaltyII10LBFGSCentralConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (penaltyII10LBFGSCentralRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func penaltyII10LBFGSCentralSettle(x *[10]float64, fx float64, g, e *[10]float64, diffs *penaltyII10LBFGSCentralDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if penaltyII10LBFGSCentralDerivativeCost > 0 {
+		spent, ok := penaltyII10LBFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
+	if stall {
+		penaltyII10LBFGSCentralRoundingFloor(x, g, e, diffs)
+	}
+	return calls, true
 }
 
 // penaltyII10LBFGSCentralConfirmGradient recomputes a difference gradient at x before the run is
@@ -722,33 +703,16 @@ func penaltyII10LBFGSCentralConfirmGradient(x *[10]float64, fx float64, g, e *[1
 	return calls + 2*penaltyII10LBFGSCentralDerivativeCost, true
 }
 
-// penaltyII10LBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func penaltyII10LBFGSCentralStepWithin(s, x *[10]float64, tol float64) bool {
-	for i := range s {
-		if !(penaltyII10LBFGSCentralAbs(s[i]) <= tol*(penaltyII10LBFGSCentralAbs(x[i])+1)) {
-			return false
-		}
+// penaltyII10LBFGSCentralGradientError bounds each central difference's error by twice its
+// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
+// in forwardError).
+func penaltyII10LBFGSCentralGradientError(x *[10]float64, fx float64, g, e *[10]float64, diffs *penaltyII10LBFGSCentralDifferences) {
+	noise := penaltyII10LBFGSCentralNoiseLevel(x, fx, g)
+	for i := range e {
+		h := diffs.ratio[i] * penaltyII10LBFGSCentralLarger(1, penaltyII10LBFGSCentralAbs(x[i]))
+		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
 	}
-	return true
-}
-
-// penaltyII10LBFGSCentralSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (penaltyII10LBFGSCentralConfirmGradient), then it adds to each error
-// bound the rounding floor of x (penaltyII10LBFGSCentralRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func penaltyII10LBFGSCentralSettle(x *[10]float64, fx float64, g, e *[10]float64, diffs *penaltyII10LBFGSCentralDifferences, budget int) (int, bool) {
-	calls := 0
-	if penaltyII10LBFGSCentralDerivativeCost > 0 {
-		spent, ok := penaltyII10LBFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
-	}
-	penaltyII10LBFGSCentralRoundingFloor(x, g, e, diffs)
-	return calls, true
 }
 
 // penaltyII10LBFGSCentralRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -769,6 +733,39 @@ func penaltyII10LBFGSCentralRoundingFloor(x, g, e *[10]float64, diffs *penaltyII
 // calibration, which penaltyII10LBFGSCentralConfirmGradient has just made at x.
 func penaltyII10LBFGSCentralDiagonalCurvature(x, g *[10]float64, diffs *penaltyII10LBFGSCentralDifferences, h *[10]float64) {
 	*h = diffs.second
+}
+
+// penaltyII10LBFGSCentralGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func penaltyII10LBFGSCentralGradientMeasure(g, e, x *[10]float64, fx float64) (measure, floor float64) {
+	scale := penaltyII10LBFGSCentralLarger(penaltyII10LBFGSCentralAbs(fx), 1)
+	for i := range g {
+		w := penaltyII10LBFGSCentralLarger(penaltyII10LBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = penaltyII10LBFGSCentralLarger(measure, (penaltyII10LBFGSCentralAbs(g[i])+e[i])*w)
+		floor = penaltyII10LBFGSCentralLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// penaltyII10LBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func penaltyII10LBFGSCentralStepWithin(s, x *[10]float64, tol float64) bool {
+	for i := range s {
+		if !(penaltyII10LBFGSCentralAbs(s[i]) <= tol*(penaltyII10LBFGSCentralAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // penaltyII10LBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the

@@ -190,11 +190,25 @@ func penaltyII4BFGSAnalyticMinimize(x0 [4]float64, lim PenaltyII4BFGSAnalyticLim
 	t, slope := float64(penaltyII4BFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                        // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                              // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                 // whether g and e at x come from penaltyII4BFGSAnalyticConfirmGradient
+	confirmed := false                                                 // whether g and e at x come from penaltyII4BFGSAnalyticConfirmGradient or settle
 	stalled := false                                                   // whether the run can make no more progress at x
 	retried := -1                                                      // the iteration whose stall was retried with recalibrated differences
+	verify := penaltyII4BFGSAnalyticVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != penaltyII4BFGSAnalyticVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see penaltyII4BFGSAnalyticConfirmGradient and settle).
+			calls, ok := penaltyII4BFGSAnalyticSettle(&x, fx, &g, &e, &diffs, verify == penaltyII4BFGSAnalyticVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(PenaltyII4BFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !penaltyII4BFGSAnalyticFiniteVec(&g) {
+				return best.ending(PenaltyII4BFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = penaltyII4BFGSAnalyticVerifyNothing, true
+		case !confirmed:
 			penaltyII4BFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := penaltyII4BFGSAnalyticGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func penaltyII4BFGSAnalyticMinimize(x0 [4]float64, lim PenaltyII4BFGSAnalyticLim
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := penaltyII4BFGSAnalyticConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(PenaltyII4BFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !penaltyII4BFGSAnalyticFiniteVec(&g) {
-				return best.ending(PenaltyII4BFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = penaltyII4BFGSAnalyticVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func penaltyII4BFGSAnalyticMinimize(x0 [4]float64, lim PenaltyII4BFGSAnalyticLim
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if penaltyII4BFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				calls, ok := penaltyII4BFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PenaltyII4BFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !penaltyII4BFGSAnalyticFiniteVec(&g) {
-					return best.ending(PenaltyII4BFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = penaltyII4BFGSAnalyticVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func penaltyII4BFGSAnalyticMinimize(x0 [4]float64, lim PenaltyII4BFGSAnalyticLim
 			case found.rising:
 				end = PenaltyII4BFGSAnalyticNoDecrease
 			case found.end == penaltyII4BFGSAnalyticSearchTiny && canSettle:
-				calls, ok := penaltyII4BFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PenaltyII4BFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !penaltyII4BFGSAnalyticFiniteVec(&g) {
-					return best.ending(PenaltyII4BFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = penaltyII4BFGSAnalyticVerifyStall, true
 				continue
 			case found.end == penaltyII4BFGSAnalyticSearchTiny:
 				end = PenaltyII4BFGSAnalyticStalled
@@ -490,51 +478,30 @@ func penaltyII4BFGSAnalyticCurvatureSafe(s, y *[4]float64) bool {
 	return sy > 0 && (sy/penaltyII4BFGSAnalyticDot(s, s))*(sy/penaltyII4BFGSAnalyticDot(y, y)) > penaltyII4BFGSAnalyticUnitRoundoff
 }
 
-// penaltyII4BFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func penaltyII4BFGSAnalyticGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *penaltyII4BFGSAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	penaltyII4BFGSAnalyticVerifyNothing = iota
+	penaltyII4BFGSAnalyticVerifyPass    // a difference gradient passed the test
+	penaltyII4BFGSAnalyticVerifyStall   // no step makes progress
+)
 
-// penaltyII4BFGSAnalyticGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func penaltyII4BFGSAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
-	scale := penaltyII4BFGSAnalyticLarger(penaltyII4BFGSAnalyticAbs(fx), 1)
-	for i := range g {
-		w := penaltyII4BFGSAnalyticLarger(penaltyII4BFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = penaltyII4BFGSAnalyticLarger(measure, (penaltyII4BFGSAnalyticAbs(g[i])+e[i])*w)
-		floor = penaltyII4BFGSAnalyticLarger(floor, e[i]*w)
+// penaltyII4BFGSAnalyticSettle prepares a verdict at x: with differences it confirms the
+// gradient (penaltyII4BFGSAnalyticConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (penaltyII4BFGSAnalyticRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func penaltyII4BFGSAnalyticSettle(x *[4]float64, fx float64, g, e *[4]float64, diffs *penaltyII4BFGSAnalyticDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if penaltyII4BFGSAnalyticDerivativeCost > 0 {
+		spent, ok := penaltyII4BFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// penaltyII4BFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func penaltyII4BFGSAnalyticLarger(a, b float64) float64 {
-	if a > b || a != a {
-		return a
+	if stall {
+		penaltyII4BFGSAnalyticRoundingFloor(x, g, e, diffs)
 	}
-	return b
-}
-
-// penaltyII4BFGSAnalyticAbs returns |v|.
-func penaltyII4BFGSAnalyticAbs(v float64) float64 {
-	if v < 0 {
-		return -v
-	}
-	return v
+	return calls, true
 }
 
 // penaltyII4BFGSAnalyticConfirmGradient recomputes a difference gradient at x before the run is
@@ -567,33 +534,20 @@ func penaltyII4BFGSAnalyticConfirmGradient(x *[4]float64, fx float64, g, e *[4]f
 	return calls + 2*penaltyII4BFGSAnalyticDerivativeCost, true
 }
 
-// penaltyII4BFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func penaltyII4BFGSAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
-	for i := range s {
-		if !(penaltyII4BFGSAnalyticAbs(s[i]) <= tol*(penaltyII4BFGSAnalyticAbs(x[i])+1)) {
-			return false
-		}
+// penaltyII4BFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func penaltyII4BFGSAnalyticGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *penaltyII4BFGSAnalyticDifferences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// penaltyII4BFGSAnalyticSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (penaltyII4BFGSAnalyticConfirmGradient), then it adds to each error
-// bound the rounding floor of x (penaltyII4BFGSAnalyticRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func penaltyII4BFGSAnalyticSettle(x *[4]float64, fx float64, g, e *[4]float64, diffs *penaltyII4BFGSAnalyticDifferences, budget int) (int, bool) {
-	calls := 0
-	if penaltyII4BFGSAnalyticDerivativeCost > 0 {
-		spent, ok := penaltyII4BFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// penaltyII4BFGSAnalyticAbs returns |v|.
+func penaltyII4BFGSAnalyticAbs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	penaltyII4BFGSAnalyticRoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // penaltyII4BFGSAnalyticRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -636,6 +590,49 @@ func penaltyII4BFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
 // penaltyII4BFGSAnalyticSquareRoot returns √v.
 func penaltyII4BFGSAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// penaltyII4BFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func penaltyII4BFGSAnalyticLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// penaltyII4BFGSAnalyticGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func penaltyII4BFGSAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
+	scale := penaltyII4BFGSAnalyticLarger(penaltyII4BFGSAnalyticAbs(fx), 1)
+	for i := range g {
+		w := penaltyII4BFGSAnalyticLarger(penaltyII4BFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = penaltyII4BFGSAnalyticLarger(measure, (penaltyII4BFGSAnalyticAbs(g[i])+e[i])*w)
+		floor = penaltyII4BFGSAnalyticLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// penaltyII4BFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func penaltyII4BFGSAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
+	for i := range s {
+		if !(penaltyII4BFGSAnalyticAbs(s[i]) <= tol*(penaltyII4BFGSAnalyticAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // penaltyII4BFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the

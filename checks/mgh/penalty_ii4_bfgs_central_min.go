@@ -190,11 +190,25 @@ func penaltyII4BFGSCentralMinimize(x0 [4]float64, lim PenaltyII4BFGSCentralLimit
 	t, slope := float64(penaltyII4BFGSCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                       // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                             // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                // whether g and e at x come from penaltyII4BFGSCentralConfirmGradient
+	confirmed := false                                                // whether g and e at x come from penaltyII4BFGSCentralConfirmGradient or settle
 	stalled := false                                                  // whether the run can make no more progress at x
 	retried := -1                                                     // the iteration whose stall was retried with recalibrated differences
+	verify := penaltyII4BFGSCentralVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != penaltyII4BFGSCentralVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see penaltyII4BFGSCentralConfirmGradient and settle).
+			calls, ok := penaltyII4BFGSCentralSettle(&x, fx, &g, &e, &diffs, verify == penaltyII4BFGSCentralVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(PenaltyII4BFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !penaltyII4BFGSCentralFiniteVec(&g) {
+				return best.ending(PenaltyII4BFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = penaltyII4BFGSCentralVerifyNothing, true
+		case !confirmed:
 			penaltyII4BFGSCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := penaltyII4BFGSCentralGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func penaltyII4BFGSCentralMinimize(x0 [4]float64, lim PenaltyII4BFGSCentralLimit
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := penaltyII4BFGSCentralConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(PenaltyII4BFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !penaltyII4BFGSCentralFiniteVec(&g) {
-				return best.ending(PenaltyII4BFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = penaltyII4BFGSCentralVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func penaltyII4BFGSCentralMinimize(x0 [4]float64, lim PenaltyII4BFGSCentralLimit
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if penaltyII4BFGSCentralStepWithin(&s, &x, lim.Step) {
-				calls, ok := penaltyII4BFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PenaltyII4BFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !penaltyII4BFGSCentralFiniteVec(&g) {
-					return best.ending(PenaltyII4BFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = penaltyII4BFGSCentralVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func penaltyII4BFGSCentralMinimize(x0 [4]float64, lim PenaltyII4BFGSCentralLimit
 			case found.rising:
 				end = PenaltyII4BFGSCentralNoDecrease
 			case found.end == penaltyII4BFGSCentralSearchTiny && canSettle:
-				calls, ok := penaltyII4BFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PenaltyII4BFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !penaltyII4BFGSCentralFiniteVec(&g) {
-					return best.ending(PenaltyII4BFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = penaltyII4BFGSCentralVerifyStall, true
 				continue
 			case found.end == penaltyII4BFGSCentralSearchTiny:
 				end = PenaltyII4BFGSCentralStalled
@@ -633,37 +621,30 @@ func penaltyII4BFGSCentralCurvatureSafe(s, y *[4]float64) bool {
 	return sy > 0 && (sy/penaltyII4BFGSCentralDot(s, s))*(sy/penaltyII4BFGSCentralDot(y, y)) > penaltyII4BFGSCentralUnitRoundoff
 }
 
-// penaltyII4BFGSCentralGradientError bounds each central difference's error by twice its
-// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
-// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
-// in forwardError).
-func penaltyII4BFGSCentralGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *penaltyII4BFGSCentralDifferences) {
-	noise := penaltyII4BFGSCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h := diffs.ratio[i] * penaltyII4BFGSCentralLarger(1, penaltyII4BFGSCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	penaltyII4BFGSCentralVerifyNothing = iota
+	penaltyII4BFGSCentralVerifyPass    // a difference gradient passed the test
+	penaltyII4BFGSCentralVerifyStall   // no step makes progress
+)
 
-// penaltyII4BFGSCentralGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func penaltyII4BFGSCentralGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
-	scale := penaltyII4BFGSCentralLarger(penaltyII4BFGSCentralAbs(fx), 1)
-	for i := range g {
-		w := penaltyII4BFGSCentralLarger(penaltyII4BFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = penaltyII4BFGSCentralLarger(measure, (penaltyII4BFGSCentralAbs(g[i])+e[i])*w)
-		floor = penaltyII4BFGSCentralLarger(floor, e[i]*w)
+// penaltyII4BFGSCentralSettle prepares a verdict at x: with differences it confirms the
+// gradient (penaltyII4BFGSCentralConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (penaltyII4BFGSCentralRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func penaltyII4BFGSCentralSettle(x *[4]float64, fx float64, g, e *[4]float64, diffs *penaltyII4BFGSCentralDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if penaltyII4BFGSCentralDerivativeCost > 0 {
+		spent, ok := penaltyII4BFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
+	if stall {
+		penaltyII4BFGSCentralRoundingFloor(x, g, e, diffs)
+	}
+	return calls, true
 }
 
 // penaltyII4BFGSCentralConfirmGradient recomputes a difference gradient at x before the run is
@@ -696,33 +677,16 @@ func penaltyII4BFGSCentralConfirmGradient(x *[4]float64, fx float64, g, e *[4]fl
 	return calls + 2*penaltyII4BFGSCentralDerivativeCost, true
 }
 
-// penaltyII4BFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func penaltyII4BFGSCentralStepWithin(s, x *[4]float64, tol float64) bool {
-	for i := range s {
-		if !(penaltyII4BFGSCentralAbs(s[i]) <= tol*(penaltyII4BFGSCentralAbs(x[i])+1)) {
-			return false
-		}
+// penaltyII4BFGSCentralGradientError bounds each central difference's error by twice its
+// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
+// in forwardError).
+func penaltyII4BFGSCentralGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *penaltyII4BFGSCentralDifferences) {
+	noise := penaltyII4BFGSCentralNoiseLevel(x, fx, g)
+	for i := range e {
+		h := diffs.ratio[i] * penaltyII4BFGSCentralLarger(1, penaltyII4BFGSCentralAbs(x[i]))
+		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
 	}
-	return true
-}
-
-// penaltyII4BFGSCentralSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (penaltyII4BFGSCentralConfirmGradient), then it adds to each error
-// bound the rounding floor of x (penaltyII4BFGSCentralRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func penaltyII4BFGSCentralSettle(x *[4]float64, fx float64, g, e *[4]float64, diffs *penaltyII4BFGSCentralDifferences, budget int) (int, bool) {
-	calls := 0
-	if penaltyII4BFGSCentralDerivativeCost > 0 {
-		spent, ok := penaltyII4BFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
-	}
-	penaltyII4BFGSCentralRoundingFloor(x, g, e, diffs)
-	return calls, true
 }
 
 // penaltyII4BFGSCentralRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -743,6 +707,39 @@ func penaltyII4BFGSCentralRoundingFloor(x, g, e *[4]float64, diffs *penaltyII4BF
 // calibration, which penaltyII4BFGSCentralConfirmGradient has just made at x.
 func penaltyII4BFGSCentralDiagonalCurvature(x, g *[4]float64, diffs *penaltyII4BFGSCentralDifferences, h *[4]float64) {
 	*h = diffs.second
+}
+
+// penaltyII4BFGSCentralGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func penaltyII4BFGSCentralGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
+	scale := penaltyII4BFGSCentralLarger(penaltyII4BFGSCentralAbs(fx), 1)
+	for i := range g {
+		w := penaltyII4BFGSCentralLarger(penaltyII4BFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = penaltyII4BFGSCentralLarger(measure, (penaltyII4BFGSCentralAbs(g[i])+e[i])*w)
+		floor = penaltyII4BFGSCentralLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// penaltyII4BFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func penaltyII4BFGSCentralStepWithin(s, x *[4]float64, tol float64) bool {
+	for i := range s {
+		if !(penaltyII4BFGSCentralAbs(s[i]) <= tol*(penaltyII4BFGSCentralAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // penaltyII4BFGSCentralTinyStep returns the longest t for which the step t·d from x passes the

@@ -190,11 +190,25 @@ func penaltyII4CGAnalyticMinimize(x0 [4]float64, lim PenaltyII4CGAnalyticLimits)
 	t, slope := float64(penaltyII4CGAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                      // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                            // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                               // whether g and e at x come from penaltyII4CGAnalyticConfirmGradient
+	confirmed := false                                               // whether g and e at x come from penaltyII4CGAnalyticConfirmGradient or settle
 	stalled := false                                                 // whether the run can make no more progress at x
 	retried := -1                                                    // the iteration whose stall was retried with recalibrated differences
+	verify := penaltyII4CGAnalyticVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != penaltyII4CGAnalyticVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see penaltyII4CGAnalyticConfirmGradient and settle).
+			calls, ok := penaltyII4CGAnalyticSettle(&x, fx, &g, &e, &diffs, verify == penaltyII4CGAnalyticVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(PenaltyII4CGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !penaltyII4CGAnalyticFiniteVec(&g) {
+				return best.ending(PenaltyII4CGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = penaltyII4CGAnalyticVerifyNothing, true
+		case !confirmed:
 			penaltyII4CGAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := penaltyII4CGAnalyticGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func penaltyII4CGAnalyticMinimize(x0 [4]float64, lim PenaltyII4CGAnalyticLimits)
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := penaltyII4CGAnalyticConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(PenaltyII4CGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !penaltyII4CGAnalyticFiniteVec(&g) {
-				return best.ending(PenaltyII4CGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = penaltyII4CGAnalyticVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func penaltyII4CGAnalyticMinimize(x0 [4]float64, lim PenaltyII4CGAnalyticLimits)
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if penaltyII4CGAnalyticStepWithin(&s, &x, lim.Step) {
-				calls, ok := penaltyII4CGAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PenaltyII4CGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !penaltyII4CGAnalyticFiniteVec(&g) {
-					return best.ending(PenaltyII4CGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = penaltyII4CGAnalyticVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func penaltyII4CGAnalyticMinimize(x0 [4]float64, lim PenaltyII4CGAnalyticLimits)
 			case found.rising:
 				end = PenaltyII4CGAnalyticNoDecrease
 			case found.end == penaltyII4CGAnalyticSearchTiny && canSettle:
-				calls, ok := penaltyII4CGAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PenaltyII4CGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !penaltyII4CGAnalyticFiniteVec(&g) {
-					return best.ending(PenaltyII4CGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = penaltyII4CGAnalyticVerifyStall, true
 				continue
 			case found.end == penaltyII4CGAnalyticSearchTiny:
 				end = PenaltyII4CGAnalyticStalled
@@ -482,41 +470,30 @@ func penaltyII4CGAnalyticScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
-// penaltyII4CGAnalyticGradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func penaltyII4CGAnalyticGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *penaltyII4CGAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	penaltyII4CGAnalyticVerifyNothing = iota
+	penaltyII4CGAnalyticVerifyPass    // a difference gradient passed the test
+	penaltyII4CGAnalyticVerifyStall   // no step makes progress
+)
 
-// penaltyII4CGAnalyticGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func penaltyII4CGAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
-	scale := penaltyII4CGAnalyticLarger(penaltyII4CGAnalyticAbs(fx), 1)
-	for i := range g {
-		w := penaltyII4CGAnalyticLarger(penaltyII4CGAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = penaltyII4CGAnalyticLarger(measure, (penaltyII4CGAnalyticAbs(g[i])+e[i])*w)
-		floor = penaltyII4CGAnalyticLarger(floor, e[i]*w)
+// penaltyII4CGAnalyticSettle prepares a verdict at x: with differences it confirms the
+// gradient (penaltyII4CGAnalyticConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (penaltyII4CGAnalyticRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func penaltyII4CGAnalyticSettle(x *[4]float64, fx float64, g, e *[4]float64, diffs *penaltyII4CGAnalyticDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if penaltyII4CGAnalyticDerivativeCost > 0 {
+		spent, ok := penaltyII4CGAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// penaltyII4CGAnalyticAbs returns |v|.
-func penaltyII4CGAnalyticAbs(v float64) float64 {
-	if v < 0 {
-		return -v
+	if stall {
+		penaltyII4CGAnalyticRoundingFloor(x, g, e, diffs)
 	}
-	return v
+	return calls, true
 }
 
 // penaltyII4CGAnalyticConfirmGradient recomputes a difference gradient at x before the run is
@@ -549,33 +526,20 @@ func penaltyII4CGAnalyticConfirmGradient(x *[4]float64, fx float64, g, e *[4]flo
 	return calls + 2*penaltyII4CGAnalyticDerivativeCost, true
 }
 
-// penaltyII4CGAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func penaltyII4CGAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
-	for i := range s {
-		if !(penaltyII4CGAnalyticAbs(s[i]) <= tol*(penaltyII4CGAnalyticAbs(x[i])+1)) {
-			return false
-		}
+// penaltyII4CGAnalyticGradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func penaltyII4CGAnalyticGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *penaltyII4CGAnalyticDifferences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// penaltyII4CGAnalyticSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (penaltyII4CGAnalyticConfirmGradient), then it adds to each error
-// bound the rounding floor of x (penaltyII4CGAnalyticRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func penaltyII4CGAnalyticSettle(x *[4]float64, fx float64, g, e *[4]float64, diffs *penaltyII4CGAnalyticDifferences, budget int) (int, bool) {
-	calls := 0
-	if penaltyII4CGAnalyticDerivativeCost > 0 {
-		spent, ok := penaltyII4CGAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// penaltyII4CGAnalyticAbs returns |v|.
+func penaltyII4CGAnalyticAbs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	penaltyII4CGAnalyticRoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // penaltyII4CGAnalyticRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -618,6 +582,39 @@ func penaltyII4CGAnalyticProbeStep(xi, h float64) (float64, float64) {
 // penaltyII4CGAnalyticSquareRoot returns √v.
 func penaltyII4CGAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// penaltyII4CGAnalyticGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func penaltyII4CGAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
+	scale := penaltyII4CGAnalyticLarger(penaltyII4CGAnalyticAbs(fx), 1)
+	for i := range g {
+		w := penaltyII4CGAnalyticLarger(penaltyII4CGAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = penaltyII4CGAnalyticLarger(measure, (penaltyII4CGAnalyticAbs(g[i])+e[i])*w)
+		floor = penaltyII4CGAnalyticLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// penaltyII4CGAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func penaltyII4CGAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
+	for i := range s {
+		if !(penaltyII4CGAnalyticAbs(s[i]) <= tol*(penaltyII4CGAnalyticAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // penaltyII4CGAnalyticTinyStep returns the longest t for which the step t·d from x passes the

@@ -190,11 +190,25 @@ func penaltyII4CGCentralMinimize(x0 [4]float64, lim PenaltyII4CGCentralLimits) p
 	t, slope := float64(penaltyII4CGCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                     // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                           // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                              // whether g and e at x come from penaltyII4CGCentralConfirmGradient
+	confirmed := false                                              // whether g and e at x come from penaltyII4CGCentralConfirmGradient or settle
 	stalled := false                                                // whether the run can make no more progress at x
 	retried := -1                                                   // the iteration whose stall was retried with recalibrated differences
+	verify := penaltyII4CGCentralVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != penaltyII4CGCentralVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see penaltyII4CGCentralConfirmGradient and settle).
+			calls, ok := penaltyII4CGCentralSettle(&x, fx, &g, &e, &diffs, verify == penaltyII4CGCentralVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(PenaltyII4CGCentralOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !penaltyII4CGCentralFiniteVec(&g) {
+				return best.ending(PenaltyII4CGCentralNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = penaltyII4CGCentralVerifyNothing, true
+		case !confirmed:
 			penaltyII4CGCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := penaltyII4CGCentralGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func penaltyII4CGCentralMinimize(x0 [4]float64, lim PenaltyII4CGCentralLimits) p
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := penaltyII4CGCentralConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(PenaltyII4CGCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !penaltyII4CGCentralFiniteVec(&g) {
-				return best.ending(PenaltyII4CGCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = penaltyII4CGCentralVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func penaltyII4CGCentralMinimize(x0 [4]float64, lim PenaltyII4CGCentralLimits) p
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if penaltyII4CGCentralStepWithin(&s, &x, lim.Step) {
-				calls, ok := penaltyII4CGCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PenaltyII4CGCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !penaltyII4CGCentralFiniteVec(&g) {
-					return best.ending(PenaltyII4CGCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = penaltyII4CGCentralVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func penaltyII4CGCentralMinimize(x0 [4]float64, lim PenaltyII4CGCentralLimits) p
 			case found.rising:
 				end = PenaltyII4CGCentralNoDecrease
 			case found.end == penaltyII4CGCentralSearchTiny && canSettle:
-				calls, ok := penaltyII4CGCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PenaltyII4CGCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !penaltyII4CGCentralFiniteVec(&g) {
-					return best.ending(PenaltyII4CGCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = penaltyII4CGCentralVerifyStall, true
 				continue
 			case found.end == penaltyII4CGCentralSearchTiny:
 				end = PenaltyII4CGCentralStalled
@@ -615,37 +603,30 @@ func penaltyII4CGCentralScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
-// penaltyII4CGCentralGradientError bounds each central difference's error by twice its
-// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
-// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
-// in forwardError).
-func penaltyII4CGCentralGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *penaltyII4CGCentralDifferences) {
-	noise := penaltyII4CGCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h := diffs.ratio[i] * penaltyII4CGCentralLarger(1, penaltyII4CGCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	penaltyII4CGCentralVerifyNothing = iota
+	penaltyII4CGCentralVerifyPass    // a difference gradient passed the test
+	penaltyII4CGCentralVerifyStall   // no step makes progress
+)
 
-// penaltyII4CGCentralGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func penaltyII4CGCentralGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
-	scale := penaltyII4CGCentralLarger(penaltyII4CGCentralAbs(fx), 1)
-	for i := range g {
-		w := penaltyII4CGCentralLarger(penaltyII4CGCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = penaltyII4CGCentralLarger(measure, (penaltyII4CGCentralAbs(g[i])+e[i])*w)
-		floor = penaltyII4CGCentralLarger(floor, e[i]*w)
+// penaltyII4CGCentralSettle prepares a verdict at x: with differences it confirms the
+// gradient (penaltyII4CGCentralConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (penaltyII4CGCentralRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func penaltyII4CGCentralSettle(x *[4]float64, fx float64, g, e *[4]float64, diffs *penaltyII4CGCentralDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if penaltyII4CGCentralDerivativeCost > 0 {
+		spent, ok := penaltyII4CGCentralConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
+	if stall {
+		penaltyII4CGCentralRoundingFloor(x, g, e, diffs)
+	}
+	return calls, true
 }
 
 // penaltyII4CGCentralConfirmGradient recomputes a difference gradient at x before the run is
@@ -678,33 +659,16 @@ func penaltyII4CGCentralConfirmGradient(x *[4]float64, fx float64, g, e *[4]floa
 	return calls + 2*penaltyII4CGCentralDerivativeCost, true
 }
 
-// penaltyII4CGCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func penaltyII4CGCentralStepWithin(s, x *[4]float64, tol float64) bool {
-	for i := range s {
-		if !(penaltyII4CGCentralAbs(s[i]) <= tol*(penaltyII4CGCentralAbs(x[i])+1)) {
-			return false
-		}
+// penaltyII4CGCentralGradientError bounds each central difference's error by twice its
+// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
+// in forwardError).
+func penaltyII4CGCentralGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *penaltyII4CGCentralDifferences) {
+	noise := penaltyII4CGCentralNoiseLevel(x, fx, g)
+	for i := range e {
+		h := diffs.ratio[i] * penaltyII4CGCentralLarger(1, penaltyII4CGCentralAbs(x[i]))
+		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
 	}
-	return true
-}
-
-// penaltyII4CGCentralSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (penaltyII4CGCentralConfirmGradient), then it adds to each error
-// bound the rounding floor of x (penaltyII4CGCentralRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func penaltyII4CGCentralSettle(x *[4]float64, fx float64, g, e *[4]float64, diffs *penaltyII4CGCentralDifferences, budget int) (int, bool) {
-	calls := 0
-	if penaltyII4CGCentralDerivativeCost > 0 {
-		spent, ok := penaltyII4CGCentralConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
-	}
-	penaltyII4CGCentralRoundingFloor(x, g, e, diffs)
-	return calls, true
 }
 
 // penaltyII4CGCentralRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -725,6 +689,39 @@ func penaltyII4CGCentralRoundingFloor(x, g, e *[4]float64, diffs *penaltyII4CGCe
 // calibration, which penaltyII4CGCentralConfirmGradient has just made at x.
 func penaltyII4CGCentralDiagonalCurvature(x, g *[4]float64, diffs *penaltyII4CGCentralDifferences, h *[4]float64) {
 	*h = diffs.second
+}
+
+// penaltyII4CGCentralGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func penaltyII4CGCentralGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
+	scale := penaltyII4CGCentralLarger(penaltyII4CGCentralAbs(fx), 1)
+	for i := range g {
+		w := penaltyII4CGCentralLarger(penaltyII4CGCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = penaltyII4CGCentralLarger(measure, (penaltyII4CGCentralAbs(g[i])+e[i])*w)
+		floor = penaltyII4CGCentralLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// penaltyII4CGCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func penaltyII4CGCentralStepWithin(s, x *[4]float64, tol float64) bool {
+	for i := range s {
+		if !(penaltyII4CGCentralAbs(s[i]) <= tol*(penaltyII4CGCentralAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // penaltyII4CGCentralTinyStep returns the longest t for which the step t·d from x passes the

@@ -191,11 +191,25 @@ func penaltyII4LBFGSAnalyticMinimize(x0 [4]float64, lim PenaltyII4LBFGSAnalyticL
 	t, slope := float64(penaltyII4LBFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                         // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                               // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                  // whether g and e at x come from penaltyII4LBFGSAnalyticConfirmGradient
+	confirmed := false                                                  // whether g and e at x come from penaltyII4LBFGSAnalyticConfirmGradient or settle
 	stalled := false                                                    // whether the run can make no more progress at x
 	retried := -1                                                       // the iteration whose stall was retried with recalibrated differences
+	verify := penaltyII4LBFGSAnalyticVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != penaltyII4LBFGSAnalyticVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see penaltyII4LBFGSAnalyticConfirmGradient and settle).
+			calls, ok := penaltyII4LBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, verify == penaltyII4LBFGSAnalyticVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(PenaltyII4LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !penaltyII4LBFGSAnalyticFiniteVec(&g) {
+				return best.ending(PenaltyII4LBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = penaltyII4LBFGSAnalyticVerifyNothing, true
+		case !confirmed:
 			penaltyII4LBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := penaltyII4LBFGSAnalyticGradientMeasure(&g, &e, &x, fx)
@@ -213,17 +227,7 @@ func penaltyII4LBFGSAnalyticMinimize(x0 [4]float64, lim PenaltyII4LBFGSAnalyticL
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := penaltyII4LBFGSAnalyticConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(PenaltyII4LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !penaltyII4LBFGSAnalyticFiniteVec(&g) {
-				return best.ending(PenaltyII4LBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = penaltyII4LBFGSAnalyticVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -241,15 +245,7 @@ func penaltyII4LBFGSAnalyticMinimize(x0 [4]float64, lim PenaltyII4LBFGSAnalyticL
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if penaltyII4LBFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				calls, ok := penaltyII4LBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PenaltyII4LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !penaltyII4LBFGSAnalyticFiniteVec(&g) {
-					return best.ending(PenaltyII4LBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = penaltyII4LBFGSAnalyticVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -290,15 +286,7 @@ func penaltyII4LBFGSAnalyticMinimize(x0 [4]float64, lim PenaltyII4LBFGSAnalyticL
 			case found.rising:
 				end = PenaltyII4LBFGSAnalyticNoDecrease
 			case found.end == penaltyII4LBFGSAnalyticSearchTiny && canSettle:
-				calls, ok := penaltyII4LBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PenaltyII4LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !penaltyII4LBFGSAnalyticFiniteVec(&g) {
-					return best.ending(PenaltyII4LBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = penaltyII4LBFGSAnalyticVerifyStall, true
 				continue
 			case found.end == penaltyII4LBFGSAnalyticSearchTiny:
 				end = PenaltyII4LBFGSAnalyticStalled
@@ -516,51 +504,30 @@ func penaltyII4LBFGSAnalyticCurvatureSafe(s, y *[4]float64) bool {
 	return sy > 0 && (sy/penaltyII4LBFGSAnalyticDot(s, s))*(sy/penaltyII4LBFGSAnalyticDot(y, y)) > penaltyII4LBFGSAnalyticUnitRoundoff
 }
 
-// penaltyII4LBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func penaltyII4LBFGSAnalyticGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *penaltyII4LBFGSAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	penaltyII4LBFGSAnalyticVerifyNothing = iota
+	penaltyII4LBFGSAnalyticVerifyPass    // a difference gradient passed the test
+	penaltyII4LBFGSAnalyticVerifyStall   // no step makes progress
+)
 
-// penaltyII4LBFGSAnalyticGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func penaltyII4LBFGSAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
-	scale := penaltyII4LBFGSAnalyticLarger(penaltyII4LBFGSAnalyticAbs(fx), 1)
-	for i := range g {
-		w := penaltyII4LBFGSAnalyticLarger(penaltyII4LBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = penaltyII4LBFGSAnalyticLarger(measure, (penaltyII4LBFGSAnalyticAbs(g[i])+e[i])*w)
-		floor = penaltyII4LBFGSAnalyticLarger(floor, e[i]*w)
+// penaltyII4LBFGSAnalyticSettle prepares a verdict at x: with differences it confirms the
+// gradient (penaltyII4LBFGSAnalyticConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (penaltyII4LBFGSAnalyticRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func penaltyII4LBFGSAnalyticSettle(x *[4]float64, fx float64, g, e *[4]float64, diffs *penaltyII4LBFGSAnalyticDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if penaltyII4LBFGSAnalyticDerivativeCost > 0 {
+		spent, ok := penaltyII4LBFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// penaltyII4LBFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func penaltyII4LBFGSAnalyticLarger(a, b float64) float64 {
-	if a > b || a != a {
-		return a
+	if stall {
+		penaltyII4LBFGSAnalyticRoundingFloor(x, g, e, diffs)
 	}
-	return b
-}
-
-// penaltyII4LBFGSAnalyticAbs returns |v|.
-func penaltyII4LBFGSAnalyticAbs(v float64) float64 {
-	if v < 0 {
-		return -v
-	}
-	return v
+	return calls, true
 }
 
 // penaltyII4LBFGSAnalyticConfirmGradient recomputes a difference gradient at x before the run is
@@ -593,33 +560,20 @@ func penaltyII4LBFGSAnalyticConfirmGradient(x *[4]float64, fx float64, g, e *[4]
 	return calls + 2*penaltyII4LBFGSAnalyticDerivativeCost, true
 }
 
-// penaltyII4LBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func penaltyII4LBFGSAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
-	for i := range s {
-		if !(penaltyII4LBFGSAnalyticAbs(s[i]) <= tol*(penaltyII4LBFGSAnalyticAbs(x[i])+1)) {
-			return false
-		}
+// penaltyII4LBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func penaltyII4LBFGSAnalyticGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *penaltyII4LBFGSAnalyticDifferences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// penaltyII4LBFGSAnalyticSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (penaltyII4LBFGSAnalyticConfirmGradient), then it adds to each error
-// bound the rounding floor of x (penaltyII4LBFGSAnalyticRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func penaltyII4LBFGSAnalyticSettle(x *[4]float64, fx float64, g, e *[4]float64, diffs *penaltyII4LBFGSAnalyticDifferences, budget int) (int, bool) {
-	calls := 0
-	if penaltyII4LBFGSAnalyticDerivativeCost > 0 {
-		spent, ok := penaltyII4LBFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// penaltyII4LBFGSAnalyticAbs returns |v|.
+func penaltyII4LBFGSAnalyticAbs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	penaltyII4LBFGSAnalyticRoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // penaltyII4LBFGSAnalyticRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -662,6 +616,49 @@ func penaltyII4LBFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
 // penaltyII4LBFGSAnalyticSquareRoot returns √v.
 func penaltyII4LBFGSAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// penaltyII4LBFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func penaltyII4LBFGSAnalyticLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// penaltyII4LBFGSAnalyticGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func penaltyII4LBFGSAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
+	scale := penaltyII4LBFGSAnalyticLarger(penaltyII4LBFGSAnalyticAbs(fx), 1)
+	for i := range g {
+		w := penaltyII4LBFGSAnalyticLarger(penaltyII4LBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = penaltyII4LBFGSAnalyticLarger(measure, (penaltyII4LBFGSAnalyticAbs(g[i])+e[i])*w)
+		floor = penaltyII4LBFGSAnalyticLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// penaltyII4LBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func penaltyII4LBFGSAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
+	for i := range s {
+		if !(penaltyII4LBFGSAnalyticAbs(s[i]) <= tol*(penaltyII4LBFGSAnalyticAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // penaltyII4LBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the

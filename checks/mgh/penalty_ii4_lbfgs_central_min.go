@@ -191,11 +191,25 @@ func penaltyII4LBFGSCentralMinimize(x0 [4]float64, lim PenaltyII4LBFGSCentralLim
 	t, slope := float64(penaltyII4LBFGSCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                        // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                              // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                 // whether g and e at x come from penaltyII4LBFGSCentralConfirmGradient
+	confirmed := false                                                 // whether g and e at x come from penaltyII4LBFGSCentralConfirmGradient or settle
 	stalled := false                                                   // whether the run can make no more progress at x
 	retried := -1                                                      // the iteration whose stall was retried with recalibrated differences
+	verify := penaltyII4LBFGSCentralVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != penaltyII4LBFGSCentralVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see penaltyII4LBFGSCentralConfirmGradient and settle).
+			calls, ok := penaltyII4LBFGSCentralSettle(&x, fx, &g, &e, &diffs, verify == penaltyII4LBFGSCentralVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(PenaltyII4LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !penaltyII4LBFGSCentralFiniteVec(&g) {
+				return best.ending(PenaltyII4LBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = penaltyII4LBFGSCentralVerifyNothing, true
+		case !confirmed:
 			penaltyII4LBFGSCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := penaltyII4LBFGSCentralGradientMeasure(&g, &e, &x, fx)
@@ -213,17 +227,7 @@ func penaltyII4LBFGSCentralMinimize(x0 [4]float64, lim PenaltyII4LBFGSCentralLim
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := penaltyII4LBFGSCentralConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(PenaltyII4LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !penaltyII4LBFGSCentralFiniteVec(&g) {
-				return best.ending(PenaltyII4LBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = penaltyII4LBFGSCentralVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -241,15 +245,7 @@ func penaltyII4LBFGSCentralMinimize(x0 [4]float64, lim PenaltyII4LBFGSCentralLim
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if penaltyII4LBFGSCentralStepWithin(&s, &x, lim.Step) {
-				calls, ok := penaltyII4LBFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PenaltyII4LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !penaltyII4LBFGSCentralFiniteVec(&g) {
-					return best.ending(PenaltyII4LBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = penaltyII4LBFGSCentralVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -290,15 +286,7 @@ func penaltyII4LBFGSCentralMinimize(x0 [4]float64, lim PenaltyII4LBFGSCentralLim
 			case found.rising:
 				end = PenaltyII4LBFGSCentralNoDecrease
 			case found.end == penaltyII4LBFGSCentralSearchTiny && canSettle:
-				calls, ok := penaltyII4LBFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PenaltyII4LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !penaltyII4LBFGSCentralFiniteVec(&g) {
-					return best.ending(PenaltyII4LBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = penaltyII4LBFGSCentralVerifyStall, true
 				continue
 			case found.end == penaltyII4LBFGSCentralSearchTiny:
 				end = PenaltyII4LBFGSCentralStalled
@@ -659,37 +647,30 @@ func penaltyII4LBFGSCentralCurvatureSafe(s, y *[4]float64) bool {
 	return sy > 0 && (sy/penaltyII4LBFGSCentralDot(s, s))*(sy/penaltyII4LBFGSCentralDot(y, y)) > penaltyII4LBFGSCentralUnitRoundoff
 }
 
-// penaltyII4LBFGSCentralGradientError bounds each central difference's error by twice its
-// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
-// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
-// in forwardError).
-func penaltyII4LBFGSCentralGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *penaltyII4LBFGSCentralDifferences) {
-	noise := penaltyII4LBFGSCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h := diffs.ratio[i] * penaltyII4LBFGSCentralLarger(1, penaltyII4LBFGSCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	penaltyII4LBFGSCentralVerifyNothing = iota
+	penaltyII4LBFGSCentralVerifyPass    // a difference gradient passed the test
+	penaltyII4LBFGSCentralVerifyStall   // no step makes progress
+)
 
-// penaltyII4LBFGSCentralGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func penaltyII4LBFGSCentralGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
-	scale := penaltyII4LBFGSCentralLarger(penaltyII4LBFGSCentralAbs(fx), 1)
-	for i := range g {
-		w := penaltyII4LBFGSCentralLarger(penaltyII4LBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = penaltyII4LBFGSCentralLarger(measure, (penaltyII4LBFGSCentralAbs(g[i])+e[i])*w)
-		floor = penaltyII4LBFGSCentralLarger(floor, e[i]*w)
+// penaltyII4LBFGSCentralSettle prepares a verdict at x: with differences it confirms the
+// gradient (penaltyII4LBFGSCentralConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (penaltyII4LBFGSCentralRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func penaltyII4LBFGSCentralSettle(x *[4]float64, fx float64, g, e *[4]float64, diffs *penaltyII4LBFGSCentralDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if penaltyII4LBFGSCentralDerivativeCost > 0 {
+		spent, ok := penaltyII4LBFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
+	if stall {
+		penaltyII4LBFGSCentralRoundingFloor(x, g, e, diffs)
+	}
+	return calls, true
 }
 
 // penaltyII4LBFGSCentralConfirmGradient recomputes a difference gradient at x before the run is
@@ -722,33 +703,16 @@ func penaltyII4LBFGSCentralConfirmGradient(x *[4]float64, fx float64, g, e *[4]f
 	return calls + 2*penaltyII4LBFGSCentralDerivativeCost, true
 }
 
-// penaltyII4LBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func penaltyII4LBFGSCentralStepWithin(s, x *[4]float64, tol float64) bool {
-	for i := range s {
-		if !(penaltyII4LBFGSCentralAbs(s[i]) <= tol*(penaltyII4LBFGSCentralAbs(x[i])+1)) {
-			return false
-		}
+// penaltyII4LBFGSCentralGradientError bounds each central difference's error by twice its
+// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
+// in forwardError).
+func penaltyII4LBFGSCentralGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *penaltyII4LBFGSCentralDifferences) {
+	noise := penaltyII4LBFGSCentralNoiseLevel(x, fx, g)
+	for i := range e {
+		h := diffs.ratio[i] * penaltyII4LBFGSCentralLarger(1, penaltyII4LBFGSCentralAbs(x[i]))
+		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
 	}
-	return true
-}
-
-// penaltyII4LBFGSCentralSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (penaltyII4LBFGSCentralConfirmGradient), then it adds to each error
-// bound the rounding floor of x (penaltyII4LBFGSCentralRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func penaltyII4LBFGSCentralSettle(x *[4]float64, fx float64, g, e *[4]float64, diffs *penaltyII4LBFGSCentralDifferences, budget int) (int, bool) {
-	calls := 0
-	if penaltyII4LBFGSCentralDerivativeCost > 0 {
-		spent, ok := penaltyII4LBFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
-	}
-	penaltyII4LBFGSCentralRoundingFloor(x, g, e, diffs)
-	return calls, true
 }
 
 // penaltyII4LBFGSCentralRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -769,6 +733,39 @@ func penaltyII4LBFGSCentralRoundingFloor(x, g, e *[4]float64, diffs *penaltyII4L
 // calibration, which penaltyII4LBFGSCentralConfirmGradient has just made at x.
 func penaltyII4LBFGSCentralDiagonalCurvature(x, g *[4]float64, diffs *penaltyII4LBFGSCentralDifferences, h *[4]float64) {
 	*h = diffs.second
+}
+
+// penaltyII4LBFGSCentralGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func penaltyII4LBFGSCentralGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
+	scale := penaltyII4LBFGSCentralLarger(penaltyII4LBFGSCentralAbs(fx), 1)
+	for i := range g {
+		w := penaltyII4LBFGSCentralLarger(penaltyII4LBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = penaltyII4LBFGSCentralLarger(measure, (penaltyII4LBFGSCentralAbs(g[i])+e[i])*w)
+		floor = penaltyII4LBFGSCentralLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// penaltyII4LBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func penaltyII4LBFGSCentralStepWithin(s, x *[4]float64, tol float64) bool {
+	for i := range s {
+		if !(penaltyII4LBFGSCentralAbs(s[i]) <= tol*(penaltyII4LBFGSCentralAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // penaltyII4LBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the

@@ -190,11 +190,25 @@ func powellBadlyScaledBFGSAnalyticMinimize(x0 [2]float64, lim PowellBadlyScaledB
 	t, slope := float64(powellBadlyScaledBFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                               // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                                     // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                        // whether g and e at x come from powellBadlyScaledBFGSAnalyticConfirmGradient
+	confirmed := false                                                        // whether g and e at x come from powellBadlyScaledBFGSAnalyticConfirmGradient or settle
 	stalled := false                                                          // whether the run can make no more progress at x
 	retried := -1                                                             // the iteration whose stall was retried with recalibrated differences
+	verify := powellBadlyScaledBFGSAnalyticVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != powellBadlyScaledBFGSAnalyticVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see powellBadlyScaledBFGSAnalyticConfirmGradient and settle).
+			calls, ok := powellBadlyScaledBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, verify == powellBadlyScaledBFGSAnalyticVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(PowellBadlyScaledBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !powellBadlyScaledBFGSAnalyticFiniteVec(&g) {
+				return best.ending(PowellBadlyScaledBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = powellBadlyScaledBFGSAnalyticVerifyNothing, true
+		case !confirmed:
 			powellBadlyScaledBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := powellBadlyScaledBFGSAnalyticGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func powellBadlyScaledBFGSAnalyticMinimize(x0 [2]float64, lim PowellBadlyScaledB
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := powellBadlyScaledBFGSAnalyticConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(PowellBadlyScaledBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !powellBadlyScaledBFGSAnalyticFiniteVec(&g) {
-				return best.ending(PowellBadlyScaledBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = powellBadlyScaledBFGSAnalyticVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func powellBadlyScaledBFGSAnalyticMinimize(x0 [2]float64, lim PowellBadlyScaledB
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if powellBadlyScaledBFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				calls, ok := powellBadlyScaledBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PowellBadlyScaledBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !powellBadlyScaledBFGSAnalyticFiniteVec(&g) {
-					return best.ending(PowellBadlyScaledBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = powellBadlyScaledBFGSAnalyticVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func powellBadlyScaledBFGSAnalyticMinimize(x0 [2]float64, lim PowellBadlyScaledB
 			case found.rising:
 				end = PowellBadlyScaledBFGSAnalyticNoDecrease
 			case found.end == powellBadlyScaledBFGSAnalyticSearchTiny && canSettle:
-				calls, ok := powellBadlyScaledBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PowellBadlyScaledBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !powellBadlyScaledBFGSAnalyticFiniteVec(&g) {
-					return best.ending(PowellBadlyScaledBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = powellBadlyScaledBFGSAnalyticVerifyStall, true
 				continue
 			case found.end == powellBadlyScaledBFGSAnalyticSearchTiny:
 				end = PowellBadlyScaledBFGSAnalyticStalled
@@ -490,51 +478,30 @@ func powellBadlyScaledBFGSAnalyticCurvatureSafe(s, y *[2]float64) bool {
 	return sy > 0 && (sy/powellBadlyScaledBFGSAnalyticDot(s, s))*(sy/powellBadlyScaledBFGSAnalyticDot(y, y)) > powellBadlyScaledBFGSAnalyticUnitRoundoff
 }
 
-// powellBadlyScaledBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func powellBadlyScaledBFGSAnalyticGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *powellBadlyScaledBFGSAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	powellBadlyScaledBFGSAnalyticVerifyNothing = iota
+	powellBadlyScaledBFGSAnalyticVerifyPass    // a difference gradient passed the test
+	powellBadlyScaledBFGSAnalyticVerifyStall   // no step makes progress
+)
 
-// powellBadlyScaledBFGSAnalyticGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func powellBadlyScaledBFGSAnalyticGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
-	scale := powellBadlyScaledBFGSAnalyticLarger(powellBadlyScaledBFGSAnalyticAbs(fx), 1)
-	for i := range g {
-		w := powellBadlyScaledBFGSAnalyticLarger(powellBadlyScaledBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = powellBadlyScaledBFGSAnalyticLarger(measure, (powellBadlyScaledBFGSAnalyticAbs(g[i])+e[i])*w)
-		floor = powellBadlyScaledBFGSAnalyticLarger(floor, e[i]*w)
+// powellBadlyScaledBFGSAnalyticSettle prepares a verdict at x: with differences it confirms the
+// gradient (powellBadlyScaledBFGSAnalyticConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (powellBadlyScaledBFGSAnalyticRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func powellBadlyScaledBFGSAnalyticSettle(x *[2]float64, fx float64, g, e *[2]float64, diffs *powellBadlyScaledBFGSAnalyticDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if powellBadlyScaledBFGSAnalyticDerivativeCost > 0 {
+		spent, ok := powellBadlyScaledBFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// powellBadlyScaledBFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func powellBadlyScaledBFGSAnalyticLarger(a, b float64) float64 {
-	if a > b || a != a {
-		return a
+	if stall {
+		powellBadlyScaledBFGSAnalyticRoundingFloor(x, g, e, diffs)
 	}
-	return b
-}
-
-// powellBadlyScaledBFGSAnalyticAbs returns |v|.
-func powellBadlyScaledBFGSAnalyticAbs(v float64) float64 {
-	if v < 0 {
-		return -v
-	}
-	return v
+	return calls, true
 }
 
 // powellBadlyScaledBFGSAnalyticConfirmGradient recomputes a difference gradient at x before the run is
@@ -567,33 +534,20 @@ func powellBadlyScaledBFGSAnalyticConfirmGradient(x *[2]float64, fx float64, g, 
 	return calls + 2*powellBadlyScaledBFGSAnalyticDerivativeCost, true
 }
 
-// powellBadlyScaledBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func powellBadlyScaledBFGSAnalyticStepWithin(s, x *[2]float64, tol float64) bool {
-	for i := range s {
-		if !(powellBadlyScaledBFGSAnalyticAbs(s[i]) <= tol*(powellBadlyScaledBFGSAnalyticAbs(x[i])+1)) {
-			return false
-		}
+// powellBadlyScaledBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func powellBadlyScaledBFGSAnalyticGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *powellBadlyScaledBFGSAnalyticDifferences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// powellBadlyScaledBFGSAnalyticSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (powellBadlyScaledBFGSAnalyticConfirmGradient), then it adds to each error
-// bound the rounding floor of x (powellBadlyScaledBFGSAnalyticRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func powellBadlyScaledBFGSAnalyticSettle(x *[2]float64, fx float64, g, e *[2]float64, diffs *powellBadlyScaledBFGSAnalyticDifferences, budget int) (int, bool) {
-	calls := 0
-	if powellBadlyScaledBFGSAnalyticDerivativeCost > 0 {
-		spent, ok := powellBadlyScaledBFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// powellBadlyScaledBFGSAnalyticAbs returns |v|.
+func powellBadlyScaledBFGSAnalyticAbs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	powellBadlyScaledBFGSAnalyticRoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // powellBadlyScaledBFGSAnalyticRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -636,6 +590,49 @@ func powellBadlyScaledBFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
 // powellBadlyScaledBFGSAnalyticSquareRoot returns √v.
 func powellBadlyScaledBFGSAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// powellBadlyScaledBFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func powellBadlyScaledBFGSAnalyticLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// powellBadlyScaledBFGSAnalyticGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func powellBadlyScaledBFGSAnalyticGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
+	scale := powellBadlyScaledBFGSAnalyticLarger(powellBadlyScaledBFGSAnalyticAbs(fx), 1)
+	for i := range g {
+		w := powellBadlyScaledBFGSAnalyticLarger(powellBadlyScaledBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = powellBadlyScaledBFGSAnalyticLarger(measure, (powellBadlyScaledBFGSAnalyticAbs(g[i])+e[i])*w)
+		floor = powellBadlyScaledBFGSAnalyticLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// powellBadlyScaledBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func powellBadlyScaledBFGSAnalyticStepWithin(s, x *[2]float64, tol float64) bool {
+	for i := range s {
+		if !(powellBadlyScaledBFGSAnalyticAbs(s[i]) <= tol*(powellBadlyScaledBFGSAnalyticAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // powellBadlyScaledBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the

@@ -190,11 +190,25 @@ func powellBadlyScaledBFGSCentralMinimize(x0 [2]float64, lim PowellBadlyScaledBF
 	t, slope := float64(powellBadlyScaledBFGSCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                              // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                                    // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                       // whether g and e at x come from powellBadlyScaledBFGSCentralConfirmGradient
+	confirmed := false                                                       // whether g and e at x come from powellBadlyScaledBFGSCentralConfirmGradient or settle
 	stalled := false                                                         // whether the run can make no more progress at x
 	retried := -1                                                            // the iteration whose stall was retried with recalibrated differences
+	verify := powellBadlyScaledBFGSCentralVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != powellBadlyScaledBFGSCentralVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see powellBadlyScaledBFGSCentralConfirmGradient and settle).
+			calls, ok := powellBadlyScaledBFGSCentralSettle(&x, fx, &g, &e, &diffs, verify == powellBadlyScaledBFGSCentralVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(PowellBadlyScaledBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !powellBadlyScaledBFGSCentralFiniteVec(&g) {
+				return best.ending(PowellBadlyScaledBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = powellBadlyScaledBFGSCentralVerifyNothing, true
+		case !confirmed:
 			powellBadlyScaledBFGSCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := powellBadlyScaledBFGSCentralGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func powellBadlyScaledBFGSCentralMinimize(x0 [2]float64, lim PowellBadlyScaledBF
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := powellBadlyScaledBFGSCentralConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(PowellBadlyScaledBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !powellBadlyScaledBFGSCentralFiniteVec(&g) {
-				return best.ending(PowellBadlyScaledBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = powellBadlyScaledBFGSCentralVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func powellBadlyScaledBFGSCentralMinimize(x0 [2]float64, lim PowellBadlyScaledBF
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if powellBadlyScaledBFGSCentralStepWithin(&s, &x, lim.Step) {
-				calls, ok := powellBadlyScaledBFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PowellBadlyScaledBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !powellBadlyScaledBFGSCentralFiniteVec(&g) {
-					return best.ending(PowellBadlyScaledBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = powellBadlyScaledBFGSCentralVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func powellBadlyScaledBFGSCentralMinimize(x0 [2]float64, lim PowellBadlyScaledBF
 			case found.rising:
 				end = PowellBadlyScaledBFGSCentralNoDecrease
 			case found.end == powellBadlyScaledBFGSCentralSearchTiny && canSettle:
-				calls, ok := powellBadlyScaledBFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PowellBadlyScaledBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !powellBadlyScaledBFGSCentralFiniteVec(&g) {
-					return best.ending(PowellBadlyScaledBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = powellBadlyScaledBFGSCentralVerifyStall, true
 				continue
 			case found.end == powellBadlyScaledBFGSCentralSearchTiny:
 				end = PowellBadlyScaledBFGSCentralStalled
@@ -633,37 +621,30 @@ func powellBadlyScaledBFGSCentralCurvatureSafe(s, y *[2]float64) bool {
 	return sy > 0 && (sy/powellBadlyScaledBFGSCentralDot(s, s))*(sy/powellBadlyScaledBFGSCentralDot(y, y)) > powellBadlyScaledBFGSCentralUnitRoundoff
 }
 
-// powellBadlyScaledBFGSCentralGradientError bounds each central difference's error by twice its
-// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
-// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
-// in forwardError).
-func powellBadlyScaledBFGSCentralGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *powellBadlyScaledBFGSCentralDifferences) {
-	noise := powellBadlyScaledBFGSCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h := diffs.ratio[i] * powellBadlyScaledBFGSCentralLarger(1, powellBadlyScaledBFGSCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	powellBadlyScaledBFGSCentralVerifyNothing = iota
+	powellBadlyScaledBFGSCentralVerifyPass    // a difference gradient passed the test
+	powellBadlyScaledBFGSCentralVerifyStall   // no step makes progress
+)
 
-// powellBadlyScaledBFGSCentralGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func powellBadlyScaledBFGSCentralGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
-	scale := powellBadlyScaledBFGSCentralLarger(powellBadlyScaledBFGSCentralAbs(fx), 1)
-	for i := range g {
-		w := powellBadlyScaledBFGSCentralLarger(powellBadlyScaledBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = powellBadlyScaledBFGSCentralLarger(measure, (powellBadlyScaledBFGSCentralAbs(g[i])+e[i])*w)
-		floor = powellBadlyScaledBFGSCentralLarger(floor, e[i]*w)
+// powellBadlyScaledBFGSCentralSettle prepares a verdict at x: with differences it confirms the
+// gradient (powellBadlyScaledBFGSCentralConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (powellBadlyScaledBFGSCentralRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func powellBadlyScaledBFGSCentralSettle(x *[2]float64, fx float64, g, e *[2]float64, diffs *powellBadlyScaledBFGSCentralDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if powellBadlyScaledBFGSCentralDerivativeCost > 0 {
+		spent, ok := powellBadlyScaledBFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
+	if stall {
+		powellBadlyScaledBFGSCentralRoundingFloor(x, g, e, diffs)
+	}
+	return calls, true
 }
 
 // powellBadlyScaledBFGSCentralConfirmGradient recomputes a difference gradient at x before the run is
@@ -696,33 +677,16 @@ func powellBadlyScaledBFGSCentralConfirmGradient(x *[2]float64, fx float64, g, e
 	return calls + 2*powellBadlyScaledBFGSCentralDerivativeCost, true
 }
 
-// powellBadlyScaledBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func powellBadlyScaledBFGSCentralStepWithin(s, x *[2]float64, tol float64) bool {
-	for i := range s {
-		if !(powellBadlyScaledBFGSCentralAbs(s[i]) <= tol*(powellBadlyScaledBFGSCentralAbs(x[i])+1)) {
-			return false
-		}
+// powellBadlyScaledBFGSCentralGradientError bounds each central difference's error by twice its
+// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
+// in forwardError).
+func powellBadlyScaledBFGSCentralGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *powellBadlyScaledBFGSCentralDifferences) {
+	noise := powellBadlyScaledBFGSCentralNoiseLevel(x, fx, g)
+	for i := range e {
+		h := diffs.ratio[i] * powellBadlyScaledBFGSCentralLarger(1, powellBadlyScaledBFGSCentralAbs(x[i]))
+		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
 	}
-	return true
-}
-
-// powellBadlyScaledBFGSCentralSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (powellBadlyScaledBFGSCentralConfirmGradient), then it adds to each error
-// bound the rounding floor of x (powellBadlyScaledBFGSCentralRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func powellBadlyScaledBFGSCentralSettle(x *[2]float64, fx float64, g, e *[2]float64, diffs *powellBadlyScaledBFGSCentralDifferences, budget int) (int, bool) {
-	calls := 0
-	if powellBadlyScaledBFGSCentralDerivativeCost > 0 {
-		spent, ok := powellBadlyScaledBFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
-	}
-	powellBadlyScaledBFGSCentralRoundingFloor(x, g, e, diffs)
-	return calls, true
 }
 
 // powellBadlyScaledBFGSCentralRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -743,6 +707,39 @@ func powellBadlyScaledBFGSCentralRoundingFloor(x, g, e *[2]float64, diffs *powel
 // calibration, which powellBadlyScaledBFGSCentralConfirmGradient has just made at x.
 func powellBadlyScaledBFGSCentralDiagonalCurvature(x, g *[2]float64, diffs *powellBadlyScaledBFGSCentralDifferences, h *[2]float64) {
 	*h = diffs.second
+}
+
+// powellBadlyScaledBFGSCentralGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func powellBadlyScaledBFGSCentralGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
+	scale := powellBadlyScaledBFGSCentralLarger(powellBadlyScaledBFGSCentralAbs(fx), 1)
+	for i := range g {
+		w := powellBadlyScaledBFGSCentralLarger(powellBadlyScaledBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = powellBadlyScaledBFGSCentralLarger(measure, (powellBadlyScaledBFGSCentralAbs(g[i])+e[i])*w)
+		floor = powellBadlyScaledBFGSCentralLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// powellBadlyScaledBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func powellBadlyScaledBFGSCentralStepWithin(s, x *[2]float64, tol float64) bool {
+	for i := range s {
+		if !(powellBadlyScaledBFGSCentralAbs(s[i]) <= tol*(powellBadlyScaledBFGSCentralAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // powellBadlyScaledBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the

@@ -190,11 +190,25 @@ func powellBadlyScaledCGAnalyticMinimize(x0 [2]float64, lim PowellBadlyScaledCGA
 	t, slope := float64(powellBadlyScaledCGAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                             // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                                   // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                      // whether g and e at x come from powellBadlyScaledCGAnalyticConfirmGradient
+	confirmed := false                                                      // whether g and e at x come from powellBadlyScaledCGAnalyticConfirmGradient or settle
 	stalled := false                                                        // whether the run can make no more progress at x
 	retried := -1                                                           // the iteration whose stall was retried with recalibrated differences
+	verify := powellBadlyScaledCGAnalyticVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != powellBadlyScaledCGAnalyticVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see powellBadlyScaledCGAnalyticConfirmGradient and settle).
+			calls, ok := powellBadlyScaledCGAnalyticSettle(&x, fx, &g, &e, &diffs, verify == powellBadlyScaledCGAnalyticVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(PowellBadlyScaledCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !powellBadlyScaledCGAnalyticFiniteVec(&g) {
+				return best.ending(PowellBadlyScaledCGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = powellBadlyScaledCGAnalyticVerifyNothing, true
+		case !confirmed:
 			powellBadlyScaledCGAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := powellBadlyScaledCGAnalyticGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func powellBadlyScaledCGAnalyticMinimize(x0 [2]float64, lim PowellBadlyScaledCGA
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := powellBadlyScaledCGAnalyticConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(PowellBadlyScaledCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !powellBadlyScaledCGAnalyticFiniteVec(&g) {
-				return best.ending(PowellBadlyScaledCGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = powellBadlyScaledCGAnalyticVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func powellBadlyScaledCGAnalyticMinimize(x0 [2]float64, lim PowellBadlyScaledCGA
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if powellBadlyScaledCGAnalyticStepWithin(&s, &x, lim.Step) {
-				calls, ok := powellBadlyScaledCGAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PowellBadlyScaledCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !powellBadlyScaledCGAnalyticFiniteVec(&g) {
-					return best.ending(PowellBadlyScaledCGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = powellBadlyScaledCGAnalyticVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func powellBadlyScaledCGAnalyticMinimize(x0 [2]float64, lim PowellBadlyScaledCGA
 			case found.rising:
 				end = PowellBadlyScaledCGAnalyticNoDecrease
 			case found.end == powellBadlyScaledCGAnalyticSearchTiny && canSettle:
-				calls, ok := powellBadlyScaledCGAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PowellBadlyScaledCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !powellBadlyScaledCGAnalyticFiniteVec(&g) {
-					return best.ending(PowellBadlyScaledCGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = powellBadlyScaledCGAnalyticVerifyStall, true
 				continue
 			case found.end == powellBadlyScaledCGAnalyticSearchTiny:
 				end = PowellBadlyScaledCGAnalyticStalled
@@ -482,41 +470,30 @@ func powellBadlyScaledCGAnalyticScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
-// powellBadlyScaledCGAnalyticGradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func powellBadlyScaledCGAnalyticGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *powellBadlyScaledCGAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	powellBadlyScaledCGAnalyticVerifyNothing = iota
+	powellBadlyScaledCGAnalyticVerifyPass    // a difference gradient passed the test
+	powellBadlyScaledCGAnalyticVerifyStall   // no step makes progress
+)
 
-// powellBadlyScaledCGAnalyticGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func powellBadlyScaledCGAnalyticGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
-	scale := powellBadlyScaledCGAnalyticLarger(powellBadlyScaledCGAnalyticAbs(fx), 1)
-	for i := range g {
-		w := powellBadlyScaledCGAnalyticLarger(powellBadlyScaledCGAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = powellBadlyScaledCGAnalyticLarger(measure, (powellBadlyScaledCGAnalyticAbs(g[i])+e[i])*w)
-		floor = powellBadlyScaledCGAnalyticLarger(floor, e[i]*w)
+// powellBadlyScaledCGAnalyticSettle prepares a verdict at x: with differences it confirms the
+// gradient (powellBadlyScaledCGAnalyticConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (powellBadlyScaledCGAnalyticRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func powellBadlyScaledCGAnalyticSettle(x *[2]float64, fx float64, g, e *[2]float64, diffs *powellBadlyScaledCGAnalyticDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if powellBadlyScaledCGAnalyticDerivativeCost > 0 {
+		spent, ok := powellBadlyScaledCGAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// powellBadlyScaledCGAnalyticAbs returns |v|.
-func powellBadlyScaledCGAnalyticAbs(v float64) float64 {
-	if v < 0 {
-		return -v
+	if stall {
+		powellBadlyScaledCGAnalyticRoundingFloor(x, g, e, diffs)
 	}
-	return v
+	return calls, true
 }
 
 // powellBadlyScaledCGAnalyticConfirmGradient recomputes a difference gradient at x before the run is
@@ -549,33 +526,20 @@ func powellBadlyScaledCGAnalyticConfirmGradient(x *[2]float64, fx float64, g, e 
 	return calls + 2*powellBadlyScaledCGAnalyticDerivativeCost, true
 }
 
-// powellBadlyScaledCGAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func powellBadlyScaledCGAnalyticStepWithin(s, x *[2]float64, tol float64) bool {
-	for i := range s {
-		if !(powellBadlyScaledCGAnalyticAbs(s[i]) <= tol*(powellBadlyScaledCGAnalyticAbs(x[i])+1)) {
-			return false
-		}
+// powellBadlyScaledCGAnalyticGradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func powellBadlyScaledCGAnalyticGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *powellBadlyScaledCGAnalyticDifferences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// powellBadlyScaledCGAnalyticSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (powellBadlyScaledCGAnalyticConfirmGradient), then it adds to each error
-// bound the rounding floor of x (powellBadlyScaledCGAnalyticRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func powellBadlyScaledCGAnalyticSettle(x *[2]float64, fx float64, g, e *[2]float64, diffs *powellBadlyScaledCGAnalyticDifferences, budget int) (int, bool) {
-	calls := 0
-	if powellBadlyScaledCGAnalyticDerivativeCost > 0 {
-		spent, ok := powellBadlyScaledCGAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// powellBadlyScaledCGAnalyticAbs returns |v|.
+func powellBadlyScaledCGAnalyticAbs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	powellBadlyScaledCGAnalyticRoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // powellBadlyScaledCGAnalyticRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -618,6 +582,39 @@ func powellBadlyScaledCGAnalyticProbeStep(xi, h float64) (float64, float64) {
 // powellBadlyScaledCGAnalyticSquareRoot returns √v.
 func powellBadlyScaledCGAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// powellBadlyScaledCGAnalyticGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func powellBadlyScaledCGAnalyticGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
+	scale := powellBadlyScaledCGAnalyticLarger(powellBadlyScaledCGAnalyticAbs(fx), 1)
+	for i := range g {
+		w := powellBadlyScaledCGAnalyticLarger(powellBadlyScaledCGAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = powellBadlyScaledCGAnalyticLarger(measure, (powellBadlyScaledCGAnalyticAbs(g[i])+e[i])*w)
+		floor = powellBadlyScaledCGAnalyticLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// powellBadlyScaledCGAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func powellBadlyScaledCGAnalyticStepWithin(s, x *[2]float64, tol float64) bool {
+	for i := range s {
+		if !(powellBadlyScaledCGAnalyticAbs(s[i]) <= tol*(powellBadlyScaledCGAnalyticAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // powellBadlyScaledCGAnalyticTinyStep returns the longest t for which the step t·d from x passes the

@@ -190,11 +190,25 @@ func powellBadlyScaledCGCentralMinimize(x0 [2]float64, lim PowellBadlyScaledCGCe
 	t, slope := float64(powellBadlyScaledCGCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                            // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                                  // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                     // whether g and e at x come from powellBadlyScaledCGCentralConfirmGradient
+	confirmed := false                                                     // whether g and e at x come from powellBadlyScaledCGCentralConfirmGradient or settle
 	stalled := false                                                       // whether the run can make no more progress at x
 	retried := -1                                                          // the iteration whose stall was retried with recalibrated differences
+	verify := powellBadlyScaledCGCentralVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != powellBadlyScaledCGCentralVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see powellBadlyScaledCGCentralConfirmGradient and settle).
+			calls, ok := powellBadlyScaledCGCentralSettle(&x, fx, &g, &e, &diffs, verify == powellBadlyScaledCGCentralVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(PowellBadlyScaledCGCentralOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !powellBadlyScaledCGCentralFiniteVec(&g) {
+				return best.ending(PowellBadlyScaledCGCentralNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = powellBadlyScaledCGCentralVerifyNothing, true
+		case !confirmed:
 			powellBadlyScaledCGCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := powellBadlyScaledCGCentralGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func powellBadlyScaledCGCentralMinimize(x0 [2]float64, lim PowellBadlyScaledCGCe
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := powellBadlyScaledCGCentralConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(PowellBadlyScaledCGCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !powellBadlyScaledCGCentralFiniteVec(&g) {
-				return best.ending(PowellBadlyScaledCGCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = powellBadlyScaledCGCentralVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func powellBadlyScaledCGCentralMinimize(x0 [2]float64, lim PowellBadlyScaledCGCe
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if powellBadlyScaledCGCentralStepWithin(&s, &x, lim.Step) {
-				calls, ok := powellBadlyScaledCGCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PowellBadlyScaledCGCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !powellBadlyScaledCGCentralFiniteVec(&g) {
-					return best.ending(PowellBadlyScaledCGCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = powellBadlyScaledCGCentralVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func powellBadlyScaledCGCentralMinimize(x0 [2]float64, lim PowellBadlyScaledCGCe
 			case found.rising:
 				end = PowellBadlyScaledCGCentralNoDecrease
 			case found.end == powellBadlyScaledCGCentralSearchTiny && canSettle:
-				calls, ok := powellBadlyScaledCGCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PowellBadlyScaledCGCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !powellBadlyScaledCGCentralFiniteVec(&g) {
-					return best.ending(PowellBadlyScaledCGCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = powellBadlyScaledCGCentralVerifyStall, true
 				continue
 			case found.end == powellBadlyScaledCGCentralSearchTiny:
 				end = PowellBadlyScaledCGCentralStalled
@@ -615,37 +603,30 @@ func powellBadlyScaledCGCentralScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
-// powellBadlyScaledCGCentralGradientError bounds each central difference's error by twice its
-// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
-// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
-// in forwardError).
-func powellBadlyScaledCGCentralGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *powellBadlyScaledCGCentralDifferences) {
-	noise := powellBadlyScaledCGCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h := diffs.ratio[i] * powellBadlyScaledCGCentralLarger(1, powellBadlyScaledCGCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	powellBadlyScaledCGCentralVerifyNothing = iota
+	powellBadlyScaledCGCentralVerifyPass    // a difference gradient passed the test
+	powellBadlyScaledCGCentralVerifyStall   // no step makes progress
+)
 
-// powellBadlyScaledCGCentralGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func powellBadlyScaledCGCentralGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
-	scale := powellBadlyScaledCGCentralLarger(powellBadlyScaledCGCentralAbs(fx), 1)
-	for i := range g {
-		w := powellBadlyScaledCGCentralLarger(powellBadlyScaledCGCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = powellBadlyScaledCGCentralLarger(measure, (powellBadlyScaledCGCentralAbs(g[i])+e[i])*w)
-		floor = powellBadlyScaledCGCentralLarger(floor, e[i]*w)
+// powellBadlyScaledCGCentralSettle prepares a verdict at x: with differences it confirms the
+// gradient (powellBadlyScaledCGCentralConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (powellBadlyScaledCGCentralRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func powellBadlyScaledCGCentralSettle(x *[2]float64, fx float64, g, e *[2]float64, diffs *powellBadlyScaledCGCentralDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if powellBadlyScaledCGCentralDerivativeCost > 0 {
+		spent, ok := powellBadlyScaledCGCentralConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
+	if stall {
+		powellBadlyScaledCGCentralRoundingFloor(x, g, e, diffs)
+	}
+	return calls, true
 }
 
 // powellBadlyScaledCGCentralConfirmGradient recomputes a difference gradient at x before the run is
@@ -678,33 +659,16 @@ func powellBadlyScaledCGCentralConfirmGradient(x *[2]float64, fx float64, g, e *
 	return calls + 2*powellBadlyScaledCGCentralDerivativeCost, true
 }
 
-// powellBadlyScaledCGCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func powellBadlyScaledCGCentralStepWithin(s, x *[2]float64, tol float64) bool {
-	for i := range s {
-		if !(powellBadlyScaledCGCentralAbs(s[i]) <= tol*(powellBadlyScaledCGCentralAbs(x[i])+1)) {
-			return false
-		}
+// powellBadlyScaledCGCentralGradientError bounds each central difference's error by twice its
+// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
+// in forwardError).
+func powellBadlyScaledCGCentralGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *powellBadlyScaledCGCentralDifferences) {
+	noise := powellBadlyScaledCGCentralNoiseLevel(x, fx, g)
+	for i := range e {
+		h := diffs.ratio[i] * powellBadlyScaledCGCentralLarger(1, powellBadlyScaledCGCentralAbs(x[i]))
+		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
 	}
-	return true
-}
-
-// powellBadlyScaledCGCentralSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (powellBadlyScaledCGCentralConfirmGradient), then it adds to each error
-// bound the rounding floor of x (powellBadlyScaledCGCentralRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func powellBadlyScaledCGCentralSettle(x *[2]float64, fx float64, g, e *[2]float64, diffs *powellBadlyScaledCGCentralDifferences, budget int) (int, bool) {
-	calls := 0
-	if powellBadlyScaledCGCentralDerivativeCost > 0 {
-		spent, ok := powellBadlyScaledCGCentralConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
-	}
-	powellBadlyScaledCGCentralRoundingFloor(x, g, e, diffs)
-	return calls, true
 }
 
 // powellBadlyScaledCGCentralRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -725,6 +689,39 @@ func powellBadlyScaledCGCentralRoundingFloor(x, g, e *[2]float64, diffs *powellB
 // calibration, which powellBadlyScaledCGCentralConfirmGradient has just made at x.
 func powellBadlyScaledCGCentralDiagonalCurvature(x, g *[2]float64, diffs *powellBadlyScaledCGCentralDifferences, h *[2]float64) {
 	*h = diffs.second
+}
+
+// powellBadlyScaledCGCentralGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func powellBadlyScaledCGCentralGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
+	scale := powellBadlyScaledCGCentralLarger(powellBadlyScaledCGCentralAbs(fx), 1)
+	for i := range g {
+		w := powellBadlyScaledCGCentralLarger(powellBadlyScaledCGCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = powellBadlyScaledCGCentralLarger(measure, (powellBadlyScaledCGCentralAbs(g[i])+e[i])*w)
+		floor = powellBadlyScaledCGCentralLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// powellBadlyScaledCGCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func powellBadlyScaledCGCentralStepWithin(s, x *[2]float64, tol float64) bool {
+	for i := range s {
+		if !(powellBadlyScaledCGCentralAbs(s[i]) <= tol*(powellBadlyScaledCGCentralAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // powellBadlyScaledCGCentralTinyStep returns the longest t for which the step t·d from x passes the

@@ -191,11 +191,25 @@ func powellBadlyScaledLBFGSAnalyticMinimize(x0 [2]float64, lim PowellBadlyScaled
 	t, slope := float64(powellBadlyScaledLBFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                                // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                                      // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                         // whether g and e at x come from powellBadlyScaledLBFGSAnalyticConfirmGradient
+	confirmed := false                                                         // whether g and e at x come from powellBadlyScaledLBFGSAnalyticConfirmGradient or settle
 	stalled := false                                                           // whether the run can make no more progress at x
 	retried := -1                                                              // the iteration whose stall was retried with recalibrated differences
+	verify := powellBadlyScaledLBFGSAnalyticVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != powellBadlyScaledLBFGSAnalyticVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see powellBadlyScaledLBFGSAnalyticConfirmGradient and settle).
+			calls, ok := powellBadlyScaledLBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, verify == powellBadlyScaledLBFGSAnalyticVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(PowellBadlyScaledLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !powellBadlyScaledLBFGSAnalyticFiniteVec(&g) {
+				return best.ending(PowellBadlyScaledLBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = powellBadlyScaledLBFGSAnalyticVerifyNothing, true
+		case !confirmed:
 			powellBadlyScaledLBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := powellBadlyScaledLBFGSAnalyticGradientMeasure(&g, &e, &x, fx)
@@ -213,17 +227,7 @@ func powellBadlyScaledLBFGSAnalyticMinimize(x0 [2]float64, lim PowellBadlyScaled
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := powellBadlyScaledLBFGSAnalyticConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(PowellBadlyScaledLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !powellBadlyScaledLBFGSAnalyticFiniteVec(&g) {
-				return best.ending(PowellBadlyScaledLBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = powellBadlyScaledLBFGSAnalyticVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -241,15 +245,7 @@ func powellBadlyScaledLBFGSAnalyticMinimize(x0 [2]float64, lim PowellBadlyScaled
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if powellBadlyScaledLBFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				calls, ok := powellBadlyScaledLBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PowellBadlyScaledLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !powellBadlyScaledLBFGSAnalyticFiniteVec(&g) {
-					return best.ending(PowellBadlyScaledLBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = powellBadlyScaledLBFGSAnalyticVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -290,15 +286,7 @@ func powellBadlyScaledLBFGSAnalyticMinimize(x0 [2]float64, lim PowellBadlyScaled
 			case found.rising:
 				end = PowellBadlyScaledLBFGSAnalyticNoDecrease
 			case found.end == powellBadlyScaledLBFGSAnalyticSearchTiny && canSettle:
-				calls, ok := powellBadlyScaledLBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PowellBadlyScaledLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !powellBadlyScaledLBFGSAnalyticFiniteVec(&g) {
-					return best.ending(PowellBadlyScaledLBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = powellBadlyScaledLBFGSAnalyticVerifyStall, true
 				continue
 			case found.end == powellBadlyScaledLBFGSAnalyticSearchTiny:
 				end = PowellBadlyScaledLBFGSAnalyticStalled
@@ -516,51 +504,30 @@ func powellBadlyScaledLBFGSAnalyticCurvatureSafe(s, y *[2]float64) bool {
 	return sy > 0 && (sy/powellBadlyScaledLBFGSAnalyticDot(s, s))*(sy/powellBadlyScaledLBFGSAnalyticDot(y, y)) > powellBadlyScaledLBFGSAnalyticUnitRoundoff
 }
 
-// powellBadlyScaledLBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func powellBadlyScaledLBFGSAnalyticGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *powellBadlyScaledLBFGSAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	powellBadlyScaledLBFGSAnalyticVerifyNothing = iota
+	powellBadlyScaledLBFGSAnalyticVerifyPass    // a difference gradient passed the test
+	powellBadlyScaledLBFGSAnalyticVerifyStall   // no step makes progress
+)
 
-// powellBadlyScaledLBFGSAnalyticGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func powellBadlyScaledLBFGSAnalyticGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
-	scale := powellBadlyScaledLBFGSAnalyticLarger(powellBadlyScaledLBFGSAnalyticAbs(fx), 1)
-	for i := range g {
-		w := powellBadlyScaledLBFGSAnalyticLarger(powellBadlyScaledLBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = powellBadlyScaledLBFGSAnalyticLarger(measure, (powellBadlyScaledLBFGSAnalyticAbs(g[i])+e[i])*w)
-		floor = powellBadlyScaledLBFGSAnalyticLarger(floor, e[i]*w)
+// powellBadlyScaledLBFGSAnalyticSettle prepares a verdict at x: with differences it confirms the
+// gradient (powellBadlyScaledLBFGSAnalyticConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (powellBadlyScaledLBFGSAnalyticRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func powellBadlyScaledLBFGSAnalyticSettle(x *[2]float64, fx float64, g, e *[2]float64, diffs *powellBadlyScaledLBFGSAnalyticDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if powellBadlyScaledLBFGSAnalyticDerivativeCost > 0 {
+		spent, ok := powellBadlyScaledLBFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// powellBadlyScaledLBFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func powellBadlyScaledLBFGSAnalyticLarger(a, b float64) float64 {
-	if a > b || a != a {
-		return a
+	if stall {
+		powellBadlyScaledLBFGSAnalyticRoundingFloor(x, g, e, diffs)
 	}
-	return b
-}
-
-// powellBadlyScaledLBFGSAnalyticAbs returns |v|.
-func powellBadlyScaledLBFGSAnalyticAbs(v float64) float64 {
-	if v < 0 {
-		return -v
-	}
-	return v
+	return calls, true
 }
 
 // powellBadlyScaledLBFGSAnalyticConfirmGradient recomputes a difference gradient at x before the run is
@@ -593,33 +560,20 @@ func powellBadlyScaledLBFGSAnalyticConfirmGradient(x *[2]float64, fx float64, g,
 	return calls + 2*powellBadlyScaledLBFGSAnalyticDerivativeCost, true
 }
 
-// powellBadlyScaledLBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func powellBadlyScaledLBFGSAnalyticStepWithin(s, x *[2]float64, tol float64) bool {
-	for i := range s {
-		if !(powellBadlyScaledLBFGSAnalyticAbs(s[i]) <= tol*(powellBadlyScaledLBFGSAnalyticAbs(x[i])+1)) {
-			return false
-		}
+// powellBadlyScaledLBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func powellBadlyScaledLBFGSAnalyticGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *powellBadlyScaledLBFGSAnalyticDifferences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// powellBadlyScaledLBFGSAnalyticSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (powellBadlyScaledLBFGSAnalyticConfirmGradient), then it adds to each error
-// bound the rounding floor of x (powellBadlyScaledLBFGSAnalyticRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func powellBadlyScaledLBFGSAnalyticSettle(x *[2]float64, fx float64, g, e *[2]float64, diffs *powellBadlyScaledLBFGSAnalyticDifferences, budget int) (int, bool) {
-	calls := 0
-	if powellBadlyScaledLBFGSAnalyticDerivativeCost > 0 {
-		spent, ok := powellBadlyScaledLBFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// powellBadlyScaledLBFGSAnalyticAbs returns |v|.
+func powellBadlyScaledLBFGSAnalyticAbs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	powellBadlyScaledLBFGSAnalyticRoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // powellBadlyScaledLBFGSAnalyticRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -662,6 +616,49 @@ func powellBadlyScaledLBFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
 // powellBadlyScaledLBFGSAnalyticSquareRoot returns √v.
 func powellBadlyScaledLBFGSAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// powellBadlyScaledLBFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func powellBadlyScaledLBFGSAnalyticLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// powellBadlyScaledLBFGSAnalyticGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func powellBadlyScaledLBFGSAnalyticGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
+	scale := powellBadlyScaledLBFGSAnalyticLarger(powellBadlyScaledLBFGSAnalyticAbs(fx), 1)
+	for i := range g {
+		w := powellBadlyScaledLBFGSAnalyticLarger(powellBadlyScaledLBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = powellBadlyScaledLBFGSAnalyticLarger(measure, (powellBadlyScaledLBFGSAnalyticAbs(g[i])+e[i])*w)
+		floor = powellBadlyScaledLBFGSAnalyticLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// powellBadlyScaledLBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func powellBadlyScaledLBFGSAnalyticStepWithin(s, x *[2]float64, tol float64) bool {
+	for i := range s {
+		if !(powellBadlyScaledLBFGSAnalyticAbs(s[i]) <= tol*(powellBadlyScaledLBFGSAnalyticAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // powellBadlyScaledLBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the

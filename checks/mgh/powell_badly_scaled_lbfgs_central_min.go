@@ -191,11 +191,25 @@ func powellBadlyScaledLBFGSCentralMinimize(x0 [2]float64, lim PowellBadlyScaledL
 	t, slope := float64(powellBadlyScaledLBFGSCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                               // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                                     // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                        // whether g and e at x come from powellBadlyScaledLBFGSCentralConfirmGradient
+	confirmed := false                                                        // whether g and e at x come from powellBadlyScaledLBFGSCentralConfirmGradient or settle
 	stalled := false                                                          // whether the run can make no more progress at x
 	retried := -1                                                             // the iteration whose stall was retried with recalibrated differences
+	verify := powellBadlyScaledLBFGSCentralVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != powellBadlyScaledLBFGSCentralVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see powellBadlyScaledLBFGSCentralConfirmGradient and settle).
+			calls, ok := powellBadlyScaledLBFGSCentralSettle(&x, fx, &g, &e, &diffs, verify == powellBadlyScaledLBFGSCentralVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(PowellBadlyScaledLBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !powellBadlyScaledLBFGSCentralFiniteVec(&g) {
+				return best.ending(PowellBadlyScaledLBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = powellBadlyScaledLBFGSCentralVerifyNothing, true
+		case !confirmed:
 			powellBadlyScaledLBFGSCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := powellBadlyScaledLBFGSCentralGradientMeasure(&g, &e, &x, fx)
@@ -213,17 +227,7 @@ func powellBadlyScaledLBFGSCentralMinimize(x0 [2]float64, lim PowellBadlyScaledL
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := powellBadlyScaledLBFGSCentralConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(PowellBadlyScaledLBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !powellBadlyScaledLBFGSCentralFiniteVec(&g) {
-				return best.ending(PowellBadlyScaledLBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = powellBadlyScaledLBFGSCentralVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -241,15 +245,7 @@ func powellBadlyScaledLBFGSCentralMinimize(x0 [2]float64, lim PowellBadlyScaledL
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if powellBadlyScaledLBFGSCentralStepWithin(&s, &x, lim.Step) {
-				calls, ok := powellBadlyScaledLBFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PowellBadlyScaledLBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !powellBadlyScaledLBFGSCentralFiniteVec(&g) {
-					return best.ending(PowellBadlyScaledLBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = powellBadlyScaledLBFGSCentralVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -290,15 +286,7 @@ func powellBadlyScaledLBFGSCentralMinimize(x0 [2]float64, lim PowellBadlyScaledL
 			case found.rising:
 				end = PowellBadlyScaledLBFGSCentralNoDecrease
 			case found.end == powellBadlyScaledLBFGSCentralSearchTiny && canSettle:
-				calls, ok := powellBadlyScaledLBFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PowellBadlyScaledLBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !powellBadlyScaledLBFGSCentralFiniteVec(&g) {
-					return best.ending(PowellBadlyScaledLBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = powellBadlyScaledLBFGSCentralVerifyStall, true
 				continue
 			case found.end == powellBadlyScaledLBFGSCentralSearchTiny:
 				end = PowellBadlyScaledLBFGSCentralStalled
@@ -659,37 +647,30 @@ func powellBadlyScaledLBFGSCentralCurvatureSafe(s, y *[2]float64) bool {
 	return sy > 0 && (sy/powellBadlyScaledLBFGSCentralDot(s, s))*(sy/powellBadlyScaledLBFGSCentralDot(y, y)) > powellBadlyScaledLBFGSCentralUnitRoundoff
 }
 
-// powellBadlyScaledLBFGSCentralGradientError bounds each central difference's error by twice its
-// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
-// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
-// in forwardError).
-func powellBadlyScaledLBFGSCentralGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *powellBadlyScaledLBFGSCentralDifferences) {
-	noise := powellBadlyScaledLBFGSCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h := diffs.ratio[i] * powellBadlyScaledLBFGSCentralLarger(1, powellBadlyScaledLBFGSCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	powellBadlyScaledLBFGSCentralVerifyNothing = iota
+	powellBadlyScaledLBFGSCentralVerifyPass    // a difference gradient passed the test
+	powellBadlyScaledLBFGSCentralVerifyStall   // no step makes progress
+)
 
-// powellBadlyScaledLBFGSCentralGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func powellBadlyScaledLBFGSCentralGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
-	scale := powellBadlyScaledLBFGSCentralLarger(powellBadlyScaledLBFGSCentralAbs(fx), 1)
-	for i := range g {
-		w := powellBadlyScaledLBFGSCentralLarger(powellBadlyScaledLBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = powellBadlyScaledLBFGSCentralLarger(measure, (powellBadlyScaledLBFGSCentralAbs(g[i])+e[i])*w)
-		floor = powellBadlyScaledLBFGSCentralLarger(floor, e[i]*w)
+// powellBadlyScaledLBFGSCentralSettle prepares a verdict at x: with differences it confirms the
+// gradient (powellBadlyScaledLBFGSCentralConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (powellBadlyScaledLBFGSCentralRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func powellBadlyScaledLBFGSCentralSettle(x *[2]float64, fx float64, g, e *[2]float64, diffs *powellBadlyScaledLBFGSCentralDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if powellBadlyScaledLBFGSCentralDerivativeCost > 0 {
+		spent, ok := powellBadlyScaledLBFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
+	if stall {
+		powellBadlyScaledLBFGSCentralRoundingFloor(x, g, e, diffs)
+	}
+	return calls, true
 }
 
 // powellBadlyScaledLBFGSCentralConfirmGradient recomputes a difference gradient at x before the run is
@@ -722,33 +703,16 @@ func powellBadlyScaledLBFGSCentralConfirmGradient(x *[2]float64, fx float64, g, 
 	return calls + 2*powellBadlyScaledLBFGSCentralDerivativeCost, true
 }
 
-// powellBadlyScaledLBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func powellBadlyScaledLBFGSCentralStepWithin(s, x *[2]float64, tol float64) bool {
-	for i := range s {
-		if !(powellBadlyScaledLBFGSCentralAbs(s[i]) <= tol*(powellBadlyScaledLBFGSCentralAbs(x[i])+1)) {
-			return false
-		}
+// powellBadlyScaledLBFGSCentralGradientError bounds each central difference's error by twice its
+// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
+// in forwardError).
+func powellBadlyScaledLBFGSCentralGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *powellBadlyScaledLBFGSCentralDifferences) {
+	noise := powellBadlyScaledLBFGSCentralNoiseLevel(x, fx, g)
+	for i := range e {
+		h := diffs.ratio[i] * powellBadlyScaledLBFGSCentralLarger(1, powellBadlyScaledLBFGSCentralAbs(x[i]))
+		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
 	}
-	return true
-}
-
-// powellBadlyScaledLBFGSCentralSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (powellBadlyScaledLBFGSCentralConfirmGradient), then it adds to each error
-// bound the rounding floor of x (powellBadlyScaledLBFGSCentralRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func powellBadlyScaledLBFGSCentralSettle(x *[2]float64, fx float64, g, e *[2]float64, diffs *powellBadlyScaledLBFGSCentralDifferences, budget int) (int, bool) {
-	calls := 0
-	if powellBadlyScaledLBFGSCentralDerivativeCost > 0 {
-		spent, ok := powellBadlyScaledLBFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
-	}
-	powellBadlyScaledLBFGSCentralRoundingFloor(x, g, e, diffs)
-	return calls, true
 }
 
 // powellBadlyScaledLBFGSCentralRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -769,6 +733,39 @@ func powellBadlyScaledLBFGSCentralRoundingFloor(x, g, e *[2]float64, diffs *powe
 // calibration, which powellBadlyScaledLBFGSCentralConfirmGradient has just made at x.
 func powellBadlyScaledLBFGSCentralDiagonalCurvature(x, g *[2]float64, diffs *powellBadlyScaledLBFGSCentralDifferences, h *[2]float64) {
 	*h = diffs.second
+}
+
+// powellBadlyScaledLBFGSCentralGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func powellBadlyScaledLBFGSCentralGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
+	scale := powellBadlyScaledLBFGSCentralLarger(powellBadlyScaledLBFGSCentralAbs(fx), 1)
+	for i := range g {
+		w := powellBadlyScaledLBFGSCentralLarger(powellBadlyScaledLBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = powellBadlyScaledLBFGSCentralLarger(measure, (powellBadlyScaledLBFGSCentralAbs(g[i])+e[i])*w)
+		floor = powellBadlyScaledLBFGSCentralLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// powellBadlyScaledLBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func powellBadlyScaledLBFGSCentralStepWithin(s, x *[2]float64, tol float64) bool {
+	for i := range s {
+		if !(powellBadlyScaledLBFGSCentralAbs(s[i]) <= tol*(powellBadlyScaledLBFGSCentralAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // powellBadlyScaledLBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the

@@ -190,11 +190,25 @@ func powellSingularBFGSAnalyticMinimize(x0 [4]float64, lim PowellSingularBFGSAna
 	t, slope := float64(powellSingularBFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                            // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                                  // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                     // whether g and e at x come from powellSingularBFGSAnalyticConfirmGradient
+	confirmed := false                                                     // whether g and e at x come from powellSingularBFGSAnalyticConfirmGradient or settle
 	stalled := false                                                       // whether the run can make no more progress at x
 	retried := -1                                                          // the iteration whose stall was retried with recalibrated differences
+	verify := powellSingularBFGSAnalyticVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != powellSingularBFGSAnalyticVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see powellSingularBFGSAnalyticConfirmGradient and settle).
+			calls, ok := powellSingularBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, verify == powellSingularBFGSAnalyticVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(PowellSingularBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !powellSingularBFGSAnalyticFiniteVec(&g) {
+				return best.ending(PowellSingularBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = powellSingularBFGSAnalyticVerifyNothing, true
+		case !confirmed:
 			powellSingularBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := powellSingularBFGSAnalyticGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func powellSingularBFGSAnalyticMinimize(x0 [4]float64, lim PowellSingularBFGSAna
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := powellSingularBFGSAnalyticConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(PowellSingularBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !powellSingularBFGSAnalyticFiniteVec(&g) {
-				return best.ending(PowellSingularBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = powellSingularBFGSAnalyticVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func powellSingularBFGSAnalyticMinimize(x0 [4]float64, lim PowellSingularBFGSAna
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if powellSingularBFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				calls, ok := powellSingularBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PowellSingularBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !powellSingularBFGSAnalyticFiniteVec(&g) {
-					return best.ending(PowellSingularBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = powellSingularBFGSAnalyticVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func powellSingularBFGSAnalyticMinimize(x0 [4]float64, lim PowellSingularBFGSAna
 			case found.rising:
 				end = PowellSingularBFGSAnalyticNoDecrease
 			case found.end == powellSingularBFGSAnalyticSearchTiny && canSettle:
-				calls, ok := powellSingularBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PowellSingularBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !powellSingularBFGSAnalyticFiniteVec(&g) {
-					return best.ending(PowellSingularBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = powellSingularBFGSAnalyticVerifyStall, true
 				continue
 			case found.end == powellSingularBFGSAnalyticSearchTiny:
 				end = PowellSingularBFGSAnalyticStalled
@@ -490,51 +478,30 @@ func powellSingularBFGSAnalyticCurvatureSafe(s, y *[4]float64) bool {
 	return sy > 0 && (sy/powellSingularBFGSAnalyticDot(s, s))*(sy/powellSingularBFGSAnalyticDot(y, y)) > powellSingularBFGSAnalyticUnitRoundoff
 }
 
-// powellSingularBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func powellSingularBFGSAnalyticGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *powellSingularBFGSAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	powellSingularBFGSAnalyticVerifyNothing = iota
+	powellSingularBFGSAnalyticVerifyPass    // a difference gradient passed the test
+	powellSingularBFGSAnalyticVerifyStall   // no step makes progress
+)
 
-// powellSingularBFGSAnalyticGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func powellSingularBFGSAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
-	scale := powellSingularBFGSAnalyticLarger(powellSingularBFGSAnalyticAbs(fx), 1)
-	for i := range g {
-		w := powellSingularBFGSAnalyticLarger(powellSingularBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = powellSingularBFGSAnalyticLarger(measure, (powellSingularBFGSAnalyticAbs(g[i])+e[i])*w)
-		floor = powellSingularBFGSAnalyticLarger(floor, e[i]*w)
+// powellSingularBFGSAnalyticSettle prepares a verdict at x: with differences it confirms the
+// gradient (powellSingularBFGSAnalyticConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (powellSingularBFGSAnalyticRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func powellSingularBFGSAnalyticSettle(x *[4]float64, fx float64, g, e *[4]float64, diffs *powellSingularBFGSAnalyticDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if powellSingularBFGSAnalyticDerivativeCost > 0 {
+		spent, ok := powellSingularBFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// powellSingularBFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func powellSingularBFGSAnalyticLarger(a, b float64) float64 {
-	if a > b || a != a {
-		return a
+	if stall {
+		powellSingularBFGSAnalyticRoundingFloor(x, g, e, diffs)
 	}
-	return b
-}
-
-// powellSingularBFGSAnalyticAbs returns |v|.
-func powellSingularBFGSAnalyticAbs(v float64) float64 {
-	if v < 0 {
-		return -v
-	}
-	return v
+	return calls, true
 }
 
 // powellSingularBFGSAnalyticConfirmGradient recomputes a difference gradient at x before the run is
@@ -567,33 +534,20 @@ func powellSingularBFGSAnalyticConfirmGradient(x *[4]float64, fx float64, g, e *
 	return calls + 2*powellSingularBFGSAnalyticDerivativeCost, true
 }
 
-// powellSingularBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func powellSingularBFGSAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
-	for i := range s {
-		if !(powellSingularBFGSAnalyticAbs(s[i]) <= tol*(powellSingularBFGSAnalyticAbs(x[i])+1)) {
-			return false
-		}
+// powellSingularBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func powellSingularBFGSAnalyticGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *powellSingularBFGSAnalyticDifferences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// powellSingularBFGSAnalyticSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (powellSingularBFGSAnalyticConfirmGradient), then it adds to each error
-// bound the rounding floor of x (powellSingularBFGSAnalyticRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func powellSingularBFGSAnalyticSettle(x *[4]float64, fx float64, g, e *[4]float64, diffs *powellSingularBFGSAnalyticDifferences, budget int) (int, bool) {
-	calls := 0
-	if powellSingularBFGSAnalyticDerivativeCost > 0 {
-		spent, ok := powellSingularBFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// powellSingularBFGSAnalyticAbs returns |v|.
+func powellSingularBFGSAnalyticAbs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	powellSingularBFGSAnalyticRoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // powellSingularBFGSAnalyticRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -636,6 +590,49 @@ func powellSingularBFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
 // powellSingularBFGSAnalyticSquareRoot returns √v.
 func powellSingularBFGSAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// powellSingularBFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func powellSingularBFGSAnalyticLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// powellSingularBFGSAnalyticGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func powellSingularBFGSAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
+	scale := powellSingularBFGSAnalyticLarger(powellSingularBFGSAnalyticAbs(fx), 1)
+	for i := range g {
+		w := powellSingularBFGSAnalyticLarger(powellSingularBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = powellSingularBFGSAnalyticLarger(measure, (powellSingularBFGSAnalyticAbs(g[i])+e[i])*w)
+		floor = powellSingularBFGSAnalyticLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// powellSingularBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func powellSingularBFGSAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
+	for i := range s {
+		if !(powellSingularBFGSAnalyticAbs(s[i]) <= tol*(powellSingularBFGSAnalyticAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // powellSingularBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the

@@ -190,11 +190,25 @@ func powellSingularBFGSCentralMinimize(x0 [4]float64, lim PowellSingularBFGSCent
 	t, slope := float64(powellSingularBFGSCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                           // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                                 // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                    // whether g and e at x come from powellSingularBFGSCentralConfirmGradient
+	confirmed := false                                                    // whether g and e at x come from powellSingularBFGSCentralConfirmGradient or settle
 	stalled := false                                                      // whether the run can make no more progress at x
 	retried := -1                                                         // the iteration whose stall was retried with recalibrated differences
+	verify := powellSingularBFGSCentralVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != powellSingularBFGSCentralVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see powellSingularBFGSCentralConfirmGradient and settle).
+			calls, ok := powellSingularBFGSCentralSettle(&x, fx, &g, &e, &diffs, verify == powellSingularBFGSCentralVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(PowellSingularBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !powellSingularBFGSCentralFiniteVec(&g) {
+				return best.ending(PowellSingularBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = powellSingularBFGSCentralVerifyNothing, true
+		case !confirmed:
 			powellSingularBFGSCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := powellSingularBFGSCentralGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func powellSingularBFGSCentralMinimize(x0 [4]float64, lim PowellSingularBFGSCent
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := powellSingularBFGSCentralConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(PowellSingularBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !powellSingularBFGSCentralFiniteVec(&g) {
-				return best.ending(PowellSingularBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = powellSingularBFGSCentralVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func powellSingularBFGSCentralMinimize(x0 [4]float64, lim PowellSingularBFGSCent
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if powellSingularBFGSCentralStepWithin(&s, &x, lim.Step) {
-				calls, ok := powellSingularBFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PowellSingularBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !powellSingularBFGSCentralFiniteVec(&g) {
-					return best.ending(PowellSingularBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = powellSingularBFGSCentralVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func powellSingularBFGSCentralMinimize(x0 [4]float64, lim PowellSingularBFGSCent
 			case found.rising:
 				end = PowellSingularBFGSCentralNoDecrease
 			case found.end == powellSingularBFGSCentralSearchTiny && canSettle:
-				calls, ok := powellSingularBFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PowellSingularBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !powellSingularBFGSCentralFiniteVec(&g) {
-					return best.ending(PowellSingularBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = powellSingularBFGSCentralVerifyStall, true
 				continue
 			case found.end == powellSingularBFGSCentralSearchTiny:
 				end = PowellSingularBFGSCentralStalled
@@ -633,37 +621,30 @@ func powellSingularBFGSCentralCurvatureSafe(s, y *[4]float64) bool {
 	return sy > 0 && (sy/powellSingularBFGSCentralDot(s, s))*(sy/powellSingularBFGSCentralDot(y, y)) > powellSingularBFGSCentralUnitRoundoff
 }
 
-// powellSingularBFGSCentralGradientError bounds each central difference's error by twice its
-// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
-// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
-// in forwardError).
-func powellSingularBFGSCentralGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *powellSingularBFGSCentralDifferences) {
-	noise := powellSingularBFGSCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h := diffs.ratio[i] * powellSingularBFGSCentralLarger(1, powellSingularBFGSCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	powellSingularBFGSCentralVerifyNothing = iota
+	powellSingularBFGSCentralVerifyPass    // a difference gradient passed the test
+	powellSingularBFGSCentralVerifyStall   // no step makes progress
+)
 
-// powellSingularBFGSCentralGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func powellSingularBFGSCentralGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
-	scale := powellSingularBFGSCentralLarger(powellSingularBFGSCentralAbs(fx), 1)
-	for i := range g {
-		w := powellSingularBFGSCentralLarger(powellSingularBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = powellSingularBFGSCentralLarger(measure, (powellSingularBFGSCentralAbs(g[i])+e[i])*w)
-		floor = powellSingularBFGSCentralLarger(floor, e[i]*w)
+// powellSingularBFGSCentralSettle prepares a verdict at x: with differences it confirms the
+// gradient (powellSingularBFGSCentralConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (powellSingularBFGSCentralRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func powellSingularBFGSCentralSettle(x *[4]float64, fx float64, g, e *[4]float64, diffs *powellSingularBFGSCentralDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if powellSingularBFGSCentralDerivativeCost > 0 {
+		spent, ok := powellSingularBFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
+	if stall {
+		powellSingularBFGSCentralRoundingFloor(x, g, e, diffs)
+	}
+	return calls, true
 }
 
 // powellSingularBFGSCentralConfirmGradient recomputes a difference gradient at x before the run is
@@ -696,33 +677,16 @@ func powellSingularBFGSCentralConfirmGradient(x *[4]float64, fx float64, g, e *[
 	return calls + 2*powellSingularBFGSCentralDerivativeCost, true
 }
 
-// powellSingularBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func powellSingularBFGSCentralStepWithin(s, x *[4]float64, tol float64) bool {
-	for i := range s {
-		if !(powellSingularBFGSCentralAbs(s[i]) <= tol*(powellSingularBFGSCentralAbs(x[i])+1)) {
-			return false
-		}
+// powellSingularBFGSCentralGradientError bounds each central difference's error by twice its
+// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
+// in forwardError).
+func powellSingularBFGSCentralGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *powellSingularBFGSCentralDifferences) {
+	noise := powellSingularBFGSCentralNoiseLevel(x, fx, g)
+	for i := range e {
+		h := diffs.ratio[i] * powellSingularBFGSCentralLarger(1, powellSingularBFGSCentralAbs(x[i]))
+		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
 	}
-	return true
-}
-
-// powellSingularBFGSCentralSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (powellSingularBFGSCentralConfirmGradient), then it adds to each error
-// bound the rounding floor of x (powellSingularBFGSCentralRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func powellSingularBFGSCentralSettle(x *[4]float64, fx float64, g, e *[4]float64, diffs *powellSingularBFGSCentralDifferences, budget int) (int, bool) {
-	calls := 0
-	if powellSingularBFGSCentralDerivativeCost > 0 {
-		spent, ok := powellSingularBFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
-	}
-	powellSingularBFGSCentralRoundingFloor(x, g, e, diffs)
-	return calls, true
 }
 
 // powellSingularBFGSCentralRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -743,6 +707,39 @@ func powellSingularBFGSCentralRoundingFloor(x, g, e *[4]float64, diffs *powellSi
 // calibration, which powellSingularBFGSCentralConfirmGradient has just made at x.
 func powellSingularBFGSCentralDiagonalCurvature(x, g *[4]float64, diffs *powellSingularBFGSCentralDifferences, h *[4]float64) {
 	*h = diffs.second
+}
+
+// powellSingularBFGSCentralGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func powellSingularBFGSCentralGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
+	scale := powellSingularBFGSCentralLarger(powellSingularBFGSCentralAbs(fx), 1)
+	for i := range g {
+		w := powellSingularBFGSCentralLarger(powellSingularBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = powellSingularBFGSCentralLarger(measure, (powellSingularBFGSCentralAbs(g[i])+e[i])*w)
+		floor = powellSingularBFGSCentralLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// powellSingularBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func powellSingularBFGSCentralStepWithin(s, x *[4]float64, tol float64) bool {
+	for i := range s {
+		if !(powellSingularBFGSCentralAbs(s[i]) <= tol*(powellSingularBFGSCentralAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // powellSingularBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the

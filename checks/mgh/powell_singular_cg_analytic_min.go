@@ -190,11 +190,25 @@ func powellSingularCGAnalyticMinimize(x0 [4]float64, lim PowellSingularCGAnalyti
 	t, slope := float64(powellSingularCGAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                          // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                                // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                   // whether g and e at x come from powellSingularCGAnalyticConfirmGradient
+	confirmed := false                                                   // whether g and e at x come from powellSingularCGAnalyticConfirmGradient or settle
 	stalled := false                                                     // whether the run can make no more progress at x
 	retried := -1                                                        // the iteration whose stall was retried with recalibrated differences
+	verify := powellSingularCGAnalyticVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != powellSingularCGAnalyticVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see powellSingularCGAnalyticConfirmGradient and settle).
+			calls, ok := powellSingularCGAnalyticSettle(&x, fx, &g, &e, &diffs, verify == powellSingularCGAnalyticVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(PowellSingularCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !powellSingularCGAnalyticFiniteVec(&g) {
+				return best.ending(PowellSingularCGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = powellSingularCGAnalyticVerifyNothing, true
+		case !confirmed:
 			powellSingularCGAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := powellSingularCGAnalyticGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func powellSingularCGAnalyticMinimize(x0 [4]float64, lim PowellSingularCGAnalyti
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := powellSingularCGAnalyticConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(PowellSingularCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !powellSingularCGAnalyticFiniteVec(&g) {
-				return best.ending(PowellSingularCGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = powellSingularCGAnalyticVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func powellSingularCGAnalyticMinimize(x0 [4]float64, lim PowellSingularCGAnalyti
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if powellSingularCGAnalyticStepWithin(&s, &x, lim.Step) {
-				calls, ok := powellSingularCGAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PowellSingularCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !powellSingularCGAnalyticFiniteVec(&g) {
-					return best.ending(PowellSingularCGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = powellSingularCGAnalyticVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func powellSingularCGAnalyticMinimize(x0 [4]float64, lim PowellSingularCGAnalyti
 			case found.rising:
 				end = PowellSingularCGAnalyticNoDecrease
 			case found.end == powellSingularCGAnalyticSearchTiny && canSettle:
-				calls, ok := powellSingularCGAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PowellSingularCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !powellSingularCGAnalyticFiniteVec(&g) {
-					return best.ending(PowellSingularCGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = powellSingularCGAnalyticVerifyStall, true
 				continue
 			case found.end == powellSingularCGAnalyticSearchTiny:
 				end = PowellSingularCGAnalyticStalled
@@ -482,41 +470,30 @@ func powellSingularCGAnalyticScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
-// powellSingularCGAnalyticGradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func powellSingularCGAnalyticGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *powellSingularCGAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	powellSingularCGAnalyticVerifyNothing = iota
+	powellSingularCGAnalyticVerifyPass    // a difference gradient passed the test
+	powellSingularCGAnalyticVerifyStall   // no step makes progress
+)
 
-// powellSingularCGAnalyticGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func powellSingularCGAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
-	scale := powellSingularCGAnalyticLarger(powellSingularCGAnalyticAbs(fx), 1)
-	for i := range g {
-		w := powellSingularCGAnalyticLarger(powellSingularCGAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = powellSingularCGAnalyticLarger(measure, (powellSingularCGAnalyticAbs(g[i])+e[i])*w)
-		floor = powellSingularCGAnalyticLarger(floor, e[i]*w)
+// powellSingularCGAnalyticSettle prepares a verdict at x: with differences it confirms the
+// gradient (powellSingularCGAnalyticConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (powellSingularCGAnalyticRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func powellSingularCGAnalyticSettle(x *[4]float64, fx float64, g, e *[4]float64, diffs *powellSingularCGAnalyticDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if powellSingularCGAnalyticDerivativeCost > 0 {
+		spent, ok := powellSingularCGAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// powellSingularCGAnalyticAbs returns |v|.
-func powellSingularCGAnalyticAbs(v float64) float64 {
-	if v < 0 {
-		return -v
+	if stall {
+		powellSingularCGAnalyticRoundingFloor(x, g, e, diffs)
 	}
-	return v
+	return calls, true
 }
 
 // powellSingularCGAnalyticConfirmGradient recomputes a difference gradient at x before the run is
@@ -549,33 +526,20 @@ func powellSingularCGAnalyticConfirmGradient(x *[4]float64, fx float64, g, e *[4
 	return calls + 2*powellSingularCGAnalyticDerivativeCost, true
 }
 
-// powellSingularCGAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func powellSingularCGAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
-	for i := range s {
-		if !(powellSingularCGAnalyticAbs(s[i]) <= tol*(powellSingularCGAnalyticAbs(x[i])+1)) {
-			return false
-		}
+// powellSingularCGAnalyticGradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func powellSingularCGAnalyticGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *powellSingularCGAnalyticDifferences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// powellSingularCGAnalyticSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (powellSingularCGAnalyticConfirmGradient), then it adds to each error
-// bound the rounding floor of x (powellSingularCGAnalyticRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func powellSingularCGAnalyticSettle(x *[4]float64, fx float64, g, e *[4]float64, diffs *powellSingularCGAnalyticDifferences, budget int) (int, bool) {
-	calls := 0
-	if powellSingularCGAnalyticDerivativeCost > 0 {
-		spent, ok := powellSingularCGAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// powellSingularCGAnalyticAbs returns |v|.
+func powellSingularCGAnalyticAbs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	powellSingularCGAnalyticRoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // powellSingularCGAnalyticRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -618,6 +582,39 @@ func powellSingularCGAnalyticProbeStep(xi, h float64) (float64, float64) {
 // powellSingularCGAnalyticSquareRoot returns √v.
 func powellSingularCGAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// powellSingularCGAnalyticGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func powellSingularCGAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
+	scale := powellSingularCGAnalyticLarger(powellSingularCGAnalyticAbs(fx), 1)
+	for i := range g {
+		w := powellSingularCGAnalyticLarger(powellSingularCGAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = powellSingularCGAnalyticLarger(measure, (powellSingularCGAnalyticAbs(g[i])+e[i])*w)
+		floor = powellSingularCGAnalyticLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// powellSingularCGAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func powellSingularCGAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
+	for i := range s {
+		if !(powellSingularCGAnalyticAbs(s[i]) <= tol*(powellSingularCGAnalyticAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // powellSingularCGAnalyticTinyStep returns the longest t for which the step t·d from x passes the

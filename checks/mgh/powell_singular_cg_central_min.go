@@ -190,11 +190,25 @@ func powellSingularCGCentralMinimize(x0 [4]float64, lim PowellSingularCGCentralL
 	t, slope := float64(powellSingularCGCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                         // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                               // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                  // whether g and e at x come from powellSingularCGCentralConfirmGradient
+	confirmed := false                                                  // whether g and e at x come from powellSingularCGCentralConfirmGradient or settle
 	stalled := false                                                    // whether the run can make no more progress at x
 	retried := -1                                                       // the iteration whose stall was retried with recalibrated differences
+	verify := powellSingularCGCentralVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != powellSingularCGCentralVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see powellSingularCGCentralConfirmGradient and settle).
+			calls, ok := powellSingularCGCentralSettle(&x, fx, &g, &e, &diffs, verify == powellSingularCGCentralVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(PowellSingularCGCentralOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !powellSingularCGCentralFiniteVec(&g) {
+				return best.ending(PowellSingularCGCentralNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = powellSingularCGCentralVerifyNothing, true
+		case !confirmed:
 			powellSingularCGCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := powellSingularCGCentralGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func powellSingularCGCentralMinimize(x0 [4]float64, lim PowellSingularCGCentralL
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := powellSingularCGCentralConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(PowellSingularCGCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !powellSingularCGCentralFiniteVec(&g) {
-				return best.ending(PowellSingularCGCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = powellSingularCGCentralVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func powellSingularCGCentralMinimize(x0 [4]float64, lim PowellSingularCGCentralL
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if powellSingularCGCentralStepWithin(&s, &x, lim.Step) {
-				calls, ok := powellSingularCGCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PowellSingularCGCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !powellSingularCGCentralFiniteVec(&g) {
-					return best.ending(PowellSingularCGCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = powellSingularCGCentralVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func powellSingularCGCentralMinimize(x0 [4]float64, lim PowellSingularCGCentralL
 			case found.rising:
 				end = PowellSingularCGCentralNoDecrease
 			case found.end == powellSingularCGCentralSearchTiny && canSettle:
-				calls, ok := powellSingularCGCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PowellSingularCGCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !powellSingularCGCentralFiniteVec(&g) {
-					return best.ending(PowellSingularCGCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = powellSingularCGCentralVerifyStall, true
 				continue
 			case found.end == powellSingularCGCentralSearchTiny:
 				end = PowellSingularCGCentralStalled
@@ -615,37 +603,30 @@ func powellSingularCGCentralScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
-// powellSingularCGCentralGradientError bounds each central difference's error by twice its
-// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
-// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
-// in forwardError).
-func powellSingularCGCentralGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *powellSingularCGCentralDifferences) {
-	noise := powellSingularCGCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h := diffs.ratio[i] * powellSingularCGCentralLarger(1, powellSingularCGCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	powellSingularCGCentralVerifyNothing = iota
+	powellSingularCGCentralVerifyPass    // a difference gradient passed the test
+	powellSingularCGCentralVerifyStall   // no step makes progress
+)
 
-// powellSingularCGCentralGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func powellSingularCGCentralGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
-	scale := powellSingularCGCentralLarger(powellSingularCGCentralAbs(fx), 1)
-	for i := range g {
-		w := powellSingularCGCentralLarger(powellSingularCGCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = powellSingularCGCentralLarger(measure, (powellSingularCGCentralAbs(g[i])+e[i])*w)
-		floor = powellSingularCGCentralLarger(floor, e[i]*w)
+// powellSingularCGCentralSettle prepares a verdict at x: with differences it confirms the
+// gradient (powellSingularCGCentralConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (powellSingularCGCentralRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func powellSingularCGCentralSettle(x *[4]float64, fx float64, g, e *[4]float64, diffs *powellSingularCGCentralDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if powellSingularCGCentralDerivativeCost > 0 {
+		spent, ok := powellSingularCGCentralConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
+	if stall {
+		powellSingularCGCentralRoundingFloor(x, g, e, diffs)
+	}
+	return calls, true
 }
 
 // powellSingularCGCentralConfirmGradient recomputes a difference gradient at x before the run is
@@ -678,33 +659,16 @@ func powellSingularCGCentralConfirmGradient(x *[4]float64, fx float64, g, e *[4]
 	return calls + 2*powellSingularCGCentralDerivativeCost, true
 }
 
-// powellSingularCGCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func powellSingularCGCentralStepWithin(s, x *[4]float64, tol float64) bool {
-	for i := range s {
-		if !(powellSingularCGCentralAbs(s[i]) <= tol*(powellSingularCGCentralAbs(x[i])+1)) {
-			return false
-		}
+// powellSingularCGCentralGradientError bounds each central difference's error by twice its
+// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
+// in forwardError).
+func powellSingularCGCentralGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *powellSingularCGCentralDifferences) {
+	noise := powellSingularCGCentralNoiseLevel(x, fx, g)
+	for i := range e {
+		h := diffs.ratio[i] * powellSingularCGCentralLarger(1, powellSingularCGCentralAbs(x[i]))
+		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
 	}
-	return true
-}
-
-// powellSingularCGCentralSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (powellSingularCGCentralConfirmGradient), then it adds to each error
-// bound the rounding floor of x (powellSingularCGCentralRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func powellSingularCGCentralSettle(x *[4]float64, fx float64, g, e *[4]float64, diffs *powellSingularCGCentralDifferences, budget int) (int, bool) {
-	calls := 0
-	if powellSingularCGCentralDerivativeCost > 0 {
-		spent, ok := powellSingularCGCentralConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
-	}
-	powellSingularCGCentralRoundingFloor(x, g, e, diffs)
-	return calls, true
 }
 
 // powellSingularCGCentralRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -725,6 +689,39 @@ func powellSingularCGCentralRoundingFloor(x, g, e *[4]float64, diffs *powellSing
 // calibration, which powellSingularCGCentralConfirmGradient has just made at x.
 func powellSingularCGCentralDiagonalCurvature(x, g *[4]float64, diffs *powellSingularCGCentralDifferences, h *[4]float64) {
 	*h = diffs.second
+}
+
+// powellSingularCGCentralGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func powellSingularCGCentralGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
+	scale := powellSingularCGCentralLarger(powellSingularCGCentralAbs(fx), 1)
+	for i := range g {
+		w := powellSingularCGCentralLarger(powellSingularCGCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = powellSingularCGCentralLarger(measure, (powellSingularCGCentralAbs(g[i])+e[i])*w)
+		floor = powellSingularCGCentralLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// powellSingularCGCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func powellSingularCGCentralStepWithin(s, x *[4]float64, tol float64) bool {
+	for i := range s {
+		if !(powellSingularCGCentralAbs(s[i]) <= tol*(powellSingularCGCentralAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // powellSingularCGCentralTinyStep returns the longest t for which the step t·d from x passes the

@@ -191,11 +191,25 @@ func powellSingularLBFGSAnalyticMinimize(x0 [4]float64, lim PowellSingularLBFGSA
 	t, slope := float64(powellSingularLBFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                             // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                                   // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                      // whether g and e at x come from powellSingularLBFGSAnalyticConfirmGradient
+	confirmed := false                                                      // whether g and e at x come from powellSingularLBFGSAnalyticConfirmGradient or settle
 	stalled := false                                                        // whether the run can make no more progress at x
 	retried := -1                                                           // the iteration whose stall was retried with recalibrated differences
+	verify := powellSingularLBFGSAnalyticVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != powellSingularLBFGSAnalyticVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see powellSingularLBFGSAnalyticConfirmGradient and settle).
+			calls, ok := powellSingularLBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, verify == powellSingularLBFGSAnalyticVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(PowellSingularLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !powellSingularLBFGSAnalyticFiniteVec(&g) {
+				return best.ending(PowellSingularLBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = powellSingularLBFGSAnalyticVerifyNothing, true
+		case !confirmed:
 			powellSingularLBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := powellSingularLBFGSAnalyticGradientMeasure(&g, &e, &x, fx)
@@ -213,17 +227,7 @@ func powellSingularLBFGSAnalyticMinimize(x0 [4]float64, lim PowellSingularLBFGSA
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := powellSingularLBFGSAnalyticConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(PowellSingularLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !powellSingularLBFGSAnalyticFiniteVec(&g) {
-				return best.ending(PowellSingularLBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = powellSingularLBFGSAnalyticVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -241,15 +245,7 @@ func powellSingularLBFGSAnalyticMinimize(x0 [4]float64, lim PowellSingularLBFGSA
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if powellSingularLBFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				calls, ok := powellSingularLBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PowellSingularLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !powellSingularLBFGSAnalyticFiniteVec(&g) {
-					return best.ending(PowellSingularLBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = powellSingularLBFGSAnalyticVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -290,15 +286,7 @@ func powellSingularLBFGSAnalyticMinimize(x0 [4]float64, lim PowellSingularLBFGSA
 			case found.rising:
 				end = PowellSingularLBFGSAnalyticNoDecrease
 			case found.end == powellSingularLBFGSAnalyticSearchTiny && canSettle:
-				calls, ok := powellSingularLBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PowellSingularLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !powellSingularLBFGSAnalyticFiniteVec(&g) {
-					return best.ending(PowellSingularLBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = powellSingularLBFGSAnalyticVerifyStall, true
 				continue
 			case found.end == powellSingularLBFGSAnalyticSearchTiny:
 				end = PowellSingularLBFGSAnalyticStalled
@@ -516,51 +504,30 @@ func powellSingularLBFGSAnalyticCurvatureSafe(s, y *[4]float64) bool {
 	return sy > 0 && (sy/powellSingularLBFGSAnalyticDot(s, s))*(sy/powellSingularLBFGSAnalyticDot(y, y)) > powellSingularLBFGSAnalyticUnitRoundoff
 }
 
-// powellSingularLBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func powellSingularLBFGSAnalyticGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *powellSingularLBFGSAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	powellSingularLBFGSAnalyticVerifyNothing = iota
+	powellSingularLBFGSAnalyticVerifyPass    // a difference gradient passed the test
+	powellSingularLBFGSAnalyticVerifyStall   // no step makes progress
+)
 
-// powellSingularLBFGSAnalyticGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func powellSingularLBFGSAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
-	scale := powellSingularLBFGSAnalyticLarger(powellSingularLBFGSAnalyticAbs(fx), 1)
-	for i := range g {
-		w := powellSingularLBFGSAnalyticLarger(powellSingularLBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = powellSingularLBFGSAnalyticLarger(measure, (powellSingularLBFGSAnalyticAbs(g[i])+e[i])*w)
-		floor = powellSingularLBFGSAnalyticLarger(floor, e[i]*w)
+// powellSingularLBFGSAnalyticSettle prepares a verdict at x: with differences it confirms the
+// gradient (powellSingularLBFGSAnalyticConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (powellSingularLBFGSAnalyticRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func powellSingularLBFGSAnalyticSettle(x *[4]float64, fx float64, g, e *[4]float64, diffs *powellSingularLBFGSAnalyticDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if powellSingularLBFGSAnalyticDerivativeCost > 0 {
+		spent, ok := powellSingularLBFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// powellSingularLBFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func powellSingularLBFGSAnalyticLarger(a, b float64) float64 {
-	if a > b || a != a {
-		return a
+	if stall {
+		powellSingularLBFGSAnalyticRoundingFloor(x, g, e, diffs)
 	}
-	return b
-}
-
-// powellSingularLBFGSAnalyticAbs returns |v|.
-func powellSingularLBFGSAnalyticAbs(v float64) float64 {
-	if v < 0 {
-		return -v
-	}
-	return v
+	return calls, true
 }
 
 // powellSingularLBFGSAnalyticConfirmGradient recomputes a difference gradient at x before the run is
@@ -593,33 +560,20 @@ func powellSingularLBFGSAnalyticConfirmGradient(x *[4]float64, fx float64, g, e 
 	return calls + 2*powellSingularLBFGSAnalyticDerivativeCost, true
 }
 
-// powellSingularLBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func powellSingularLBFGSAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
-	for i := range s {
-		if !(powellSingularLBFGSAnalyticAbs(s[i]) <= tol*(powellSingularLBFGSAnalyticAbs(x[i])+1)) {
-			return false
-		}
+// powellSingularLBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func powellSingularLBFGSAnalyticGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *powellSingularLBFGSAnalyticDifferences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// powellSingularLBFGSAnalyticSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (powellSingularLBFGSAnalyticConfirmGradient), then it adds to each error
-// bound the rounding floor of x (powellSingularLBFGSAnalyticRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func powellSingularLBFGSAnalyticSettle(x *[4]float64, fx float64, g, e *[4]float64, diffs *powellSingularLBFGSAnalyticDifferences, budget int) (int, bool) {
-	calls := 0
-	if powellSingularLBFGSAnalyticDerivativeCost > 0 {
-		spent, ok := powellSingularLBFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// powellSingularLBFGSAnalyticAbs returns |v|.
+func powellSingularLBFGSAnalyticAbs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	powellSingularLBFGSAnalyticRoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // powellSingularLBFGSAnalyticRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -662,6 +616,49 @@ func powellSingularLBFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
 // powellSingularLBFGSAnalyticSquareRoot returns √v.
 func powellSingularLBFGSAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// powellSingularLBFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func powellSingularLBFGSAnalyticLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// powellSingularLBFGSAnalyticGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func powellSingularLBFGSAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
+	scale := powellSingularLBFGSAnalyticLarger(powellSingularLBFGSAnalyticAbs(fx), 1)
+	for i := range g {
+		w := powellSingularLBFGSAnalyticLarger(powellSingularLBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = powellSingularLBFGSAnalyticLarger(measure, (powellSingularLBFGSAnalyticAbs(g[i])+e[i])*w)
+		floor = powellSingularLBFGSAnalyticLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// powellSingularLBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func powellSingularLBFGSAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
+	for i := range s {
+		if !(powellSingularLBFGSAnalyticAbs(s[i]) <= tol*(powellSingularLBFGSAnalyticAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // powellSingularLBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the

@@ -191,11 +191,25 @@ func powellSingularLBFGSCentralMinimize(x0 [4]float64, lim PowellSingularLBFGSCe
 	t, slope := float64(powellSingularLBFGSCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                            // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                                  // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                     // whether g and e at x come from powellSingularLBFGSCentralConfirmGradient
+	confirmed := false                                                     // whether g and e at x come from powellSingularLBFGSCentralConfirmGradient or settle
 	stalled := false                                                       // whether the run can make no more progress at x
 	retried := -1                                                          // the iteration whose stall was retried with recalibrated differences
+	verify := powellSingularLBFGSCentralVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != powellSingularLBFGSCentralVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see powellSingularLBFGSCentralConfirmGradient and settle).
+			calls, ok := powellSingularLBFGSCentralSettle(&x, fx, &g, &e, &diffs, verify == powellSingularLBFGSCentralVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(PowellSingularLBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !powellSingularLBFGSCentralFiniteVec(&g) {
+				return best.ending(PowellSingularLBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = powellSingularLBFGSCentralVerifyNothing, true
+		case !confirmed:
 			powellSingularLBFGSCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := powellSingularLBFGSCentralGradientMeasure(&g, &e, &x, fx)
@@ -213,17 +227,7 @@ func powellSingularLBFGSCentralMinimize(x0 [4]float64, lim PowellSingularLBFGSCe
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := powellSingularLBFGSCentralConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(PowellSingularLBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !powellSingularLBFGSCentralFiniteVec(&g) {
-				return best.ending(PowellSingularLBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = powellSingularLBFGSCentralVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -241,15 +245,7 @@ func powellSingularLBFGSCentralMinimize(x0 [4]float64, lim PowellSingularLBFGSCe
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if powellSingularLBFGSCentralStepWithin(&s, &x, lim.Step) {
-				calls, ok := powellSingularLBFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PowellSingularLBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !powellSingularLBFGSCentralFiniteVec(&g) {
-					return best.ending(PowellSingularLBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = powellSingularLBFGSCentralVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -290,15 +286,7 @@ func powellSingularLBFGSCentralMinimize(x0 [4]float64, lim PowellSingularLBFGSCe
 			case found.rising:
 				end = PowellSingularLBFGSCentralNoDecrease
 			case found.end == powellSingularLBFGSCentralSearchTiny && canSettle:
-				calls, ok := powellSingularLBFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(PowellSingularLBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !powellSingularLBFGSCentralFiniteVec(&g) {
-					return best.ending(PowellSingularLBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = powellSingularLBFGSCentralVerifyStall, true
 				continue
 			case found.end == powellSingularLBFGSCentralSearchTiny:
 				end = PowellSingularLBFGSCentralStalled
@@ -659,37 +647,30 @@ func powellSingularLBFGSCentralCurvatureSafe(s, y *[4]float64) bool {
 	return sy > 0 && (sy/powellSingularLBFGSCentralDot(s, s))*(sy/powellSingularLBFGSCentralDot(y, y)) > powellSingularLBFGSCentralUnitRoundoff
 }
 
-// powellSingularLBFGSCentralGradientError bounds each central difference's error by twice its
-// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
-// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
-// in forwardError).
-func powellSingularLBFGSCentralGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *powellSingularLBFGSCentralDifferences) {
-	noise := powellSingularLBFGSCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h := diffs.ratio[i] * powellSingularLBFGSCentralLarger(1, powellSingularLBFGSCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	powellSingularLBFGSCentralVerifyNothing = iota
+	powellSingularLBFGSCentralVerifyPass    // a difference gradient passed the test
+	powellSingularLBFGSCentralVerifyStall   // no step makes progress
+)
 
-// powellSingularLBFGSCentralGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func powellSingularLBFGSCentralGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
-	scale := powellSingularLBFGSCentralLarger(powellSingularLBFGSCentralAbs(fx), 1)
-	for i := range g {
-		w := powellSingularLBFGSCentralLarger(powellSingularLBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = powellSingularLBFGSCentralLarger(measure, (powellSingularLBFGSCentralAbs(g[i])+e[i])*w)
-		floor = powellSingularLBFGSCentralLarger(floor, e[i]*w)
+// powellSingularLBFGSCentralSettle prepares a verdict at x: with differences it confirms the
+// gradient (powellSingularLBFGSCentralConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (powellSingularLBFGSCentralRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func powellSingularLBFGSCentralSettle(x *[4]float64, fx float64, g, e *[4]float64, diffs *powellSingularLBFGSCentralDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if powellSingularLBFGSCentralDerivativeCost > 0 {
+		spent, ok := powellSingularLBFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
+	if stall {
+		powellSingularLBFGSCentralRoundingFloor(x, g, e, diffs)
+	}
+	return calls, true
 }
 
 // powellSingularLBFGSCentralConfirmGradient recomputes a difference gradient at x before the run is
@@ -722,33 +703,16 @@ func powellSingularLBFGSCentralConfirmGradient(x *[4]float64, fx float64, g, e *
 	return calls + 2*powellSingularLBFGSCentralDerivativeCost, true
 }
 
-// powellSingularLBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func powellSingularLBFGSCentralStepWithin(s, x *[4]float64, tol float64) bool {
-	for i := range s {
-		if !(powellSingularLBFGSCentralAbs(s[i]) <= tol*(powellSingularLBFGSCentralAbs(x[i])+1)) {
-			return false
-		}
+// powellSingularLBFGSCentralGradientError bounds each central difference's error by twice its
+// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
+// in forwardError).
+func powellSingularLBFGSCentralGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *powellSingularLBFGSCentralDifferences) {
+	noise := powellSingularLBFGSCentralNoiseLevel(x, fx, g)
+	for i := range e {
+		h := diffs.ratio[i] * powellSingularLBFGSCentralLarger(1, powellSingularLBFGSCentralAbs(x[i]))
+		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
 	}
-	return true
-}
-
-// powellSingularLBFGSCentralSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (powellSingularLBFGSCentralConfirmGradient), then it adds to each error
-// bound the rounding floor of x (powellSingularLBFGSCentralRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func powellSingularLBFGSCentralSettle(x *[4]float64, fx float64, g, e *[4]float64, diffs *powellSingularLBFGSCentralDifferences, budget int) (int, bool) {
-	calls := 0
-	if powellSingularLBFGSCentralDerivativeCost > 0 {
-		spent, ok := powellSingularLBFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
-	}
-	powellSingularLBFGSCentralRoundingFloor(x, g, e, diffs)
-	return calls, true
 }
 
 // powellSingularLBFGSCentralRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -769,6 +733,39 @@ func powellSingularLBFGSCentralRoundingFloor(x, g, e *[4]float64, diffs *powellS
 // calibration, which powellSingularLBFGSCentralConfirmGradient has just made at x.
 func powellSingularLBFGSCentralDiagonalCurvature(x, g *[4]float64, diffs *powellSingularLBFGSCentralDifferences, h *[4]float64) {
 	*h = diffs.second
+}
+
+// powellSingularLBFGSCentralGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func powellSingularLBFGSCentralGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
+	scale := powellSingularLBFGSCentralLarger(powellSingularLBFGSCentralAbs(fx), 1)
+	for i := range g {
+		w := powellSingularLBFGSCentralLarger(powellSingularLBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = powellSingularLBFGSCentralLarger(measure, (powellSingularLBFGSCentralAbs(g[i])+e[i])*w)
+		floor = powellSingularLBFGSCentralLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// powellSingularLBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func powellSingularLBFGSCentralStepWithin(s, x *[4]float64, tol float64) bool {
+	for i := range s {
+		if !(powellSingularLBFGSCentralAbs(s[i]) <= tol*(powellSingularLBFGSCentralAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // powellSingularLBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the

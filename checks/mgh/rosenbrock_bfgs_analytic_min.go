@@ -190,11 +190,25 @@ func rosenbrockBFGSAnalyticMinimize(x0 [2]float64, lim RosenbrockBFGSAnalyticLim
 	t, slope := float64(rosenbrockBFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                        // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                              // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                 // whether g and e at x come from rosenbrockBFGSAnalyticConfirmGradient
+	confirmed := false                                                 // whether g and e at x come from rosenbrockBFGSAnalyticConfirmGradient or settle
 	stalled := false                                                   // whether the run can make no more progress at x
 	retried := -1                                                      // the iteration whose stall was retried with recalibrated differences
+	verify := rosenbrockBFGSAnalyticVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != rosenbrockBFGSAnalyticVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see rosenbrockBFGSAnalyticConfirmGradient and settle).
+			calls, ok := rosenbrockBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, verify == rosenbrockBFGSAnalyticVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(RosenbrockBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !rosenbrockBFGSAnalyticFiniteVec(&g) {
+				return best.ending(RosenbrockBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = rosenbrockBFGSAnalyticVerifyNothing, true
+		case !confirmed:
 			rosenbrockBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := rosenbrockBFGSAnalyticGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func rosenbrockBFGSAnalyticMinimize(x0 [2]float64, lim RosenbrockBFGSAnalyticLim
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := rosenbrockBFGSAnalyticConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(RosenbrockBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !rosenbrockBFGSAnalyticFiniteVec(&g) {
-				return best.ending(RosenbrockBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = rosenbrockBFGSAnalyticVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func rosenbrockBFGSAnalyticMinimize(x0 [2]float64, lim RosenbrockBFGSAnalyticLim
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if rosenbrockBFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				calls, ok := rosenbrockBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(RosenbrockBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !rosenbrockBFGSAnalyticFiniteVec(&g) {
-					return best.ending(RosenbrockBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = rosenbrockBFGSAnalyticVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func rosenbrockBFGSAnalyticMinimize(x0 [2]float64, lim RosenbrockBFGSAnalyticLim
 			case found.rising:
 				end = RosenbrockBFGSAnalyticNoDecrease
 			case found.end == rosenbrockBFGSAnalyticSearchTiny && canSettle:
-				calls, ok := rosenbrockBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(RosenbrockBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !rosenbrockBFGSAnalyticFiniteVec(&g) {
-					return best.ending(RosenbrockBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = rosenbrockBFGSAnalyticVerifyStall, true
 				continue
 			case found.end == rosenbrockBFGSAnalyticSearchTiny:
 				end = RosenbrockBFGSAnalyticStalled
@@ -490,51 +478,30 @@ func rosenbrockBFGSAnalyticCurvatureSafe(s, y *[2]float64) bool {
 	return sy > 0 && (sy/rosenbrockBFGSAnalyticDot(s, s))*(sy/rosenbrockBFGSAnalyticDot(y, y)) > rosenbrockBFGSAnalyticUnitRoundoff
 }
 
-// rosenbrockBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func rosenbrockBFGSAnalyticGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *rosenbrockBFGSAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	rosenbrockBFGSAnalyticVerifyNothing = iota
+	rosenbrockBFGSAnalyticVerifyPass    // a difference gradient passed the test
+	rosenbrockBFGSAnalyticVerifyStall   // no step makes progress
+)
 
-// rosenbrockBFGSAnalyticGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func rosenbrockBFGSAnalyticGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
-	scale := rosenbrockBFGSAnalyticLarger(rosenbrockBFGSAnalyticAbs(fx), 1)
-	for i := range g {
-		w := rosenbrockBFGSAnalyticLarger(rosenbrockBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = rosenbrockBFGSAnalyticLarger(measure, (rosenbrockBFGSAnalyticAbs(g[i])+e[i])*w)
-		floor = rosenbrockBFGSAnalyticLarger(floor, e[i]*w)
+// rosenbrockBFGSAnalyticSettle prepares a verdict at x: with differences it confirms the
+// gradient (rosenbrockBFGSAnalyticConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (rosenbrockBFGSAnalyticRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func rosenbrockBFGSAnalyticSettle(x *[2]float64, fx float64, g, e *[2]float64, diffs *rosenbrockBFGSAnalyticDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if rosenbrockBFGSAnalyticDerivativeCost > 0 {
+		spent, ok := rosenbrockBFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// rosenbrockBFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func rosenbrockBFGSAnalyticLarger(a, b float64) float64 {
-	if a > b || a != a {
-		return a
+	if stall {
+		rosenbrockBFGSAnalyticRoundingFloor(x, g, e, diffs)
 	}
-	return b
-}
-
-// rosenbrockBFGSAnalyticAbs returns |v|.
-func rosenbrockBFGSAnalyticAbs(v float64) float64 {
-	if v < 0 {
-		return -v
-	}
-	return v
+	return calls, true
 }
 
 // rosenbrockBFGSAnalyticConfirmGradient recomputes a difference gradient at x before the run is
@@ -567,33 +534,20 @@ func rosenbrockBFGSAnalyticConfirmGradient(x *[2]float64, fx float64, g, e *[2]f
 	return calls + 2*rosenbrockBFGSAnalyticDerivativeCost, true
 }
 
-// rosenbrockBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func rosenbrockBFGSAnalyticStepWithin(s, x *[2]float64, tol float64) bool {
-	for i := range s {
-		if !(rosenbrockBFGSAnalyticAbs(s[i]) <= tol*(rosenbrockBFGSAnalyticAbs(x[i])+1)) {
-			return false
-		}
+// rosenbrockBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func rosenbrockBFGSAnalyticGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *rosenbrockBFGSAnalyticDifferences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// rosenbrockBFGSAnalyticSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (rosenbrockBFGSAnalyticConfirmGradient), then it adds to each error
-// bound the rounding floor of x (rosenbrockBFGSAnalyticRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func rosenbrockBFGSAnalyticSettle(x *[2]float64, fx float64, g, e *[2]float64, diffs *rosenbrockBFGSAnalyticDifferences, budget int) (int, bool) {
-	calls := 0
-	if rosenbrockBFGSAnalyticDerivativeCost > 0 {
-		spent, ok := rosenbrockBFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// rosenbrockBFGSAnalyticAbs returns |v|.
+func rosenbrockBFGSAnalyticAbs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	rosenbrockBFGSAnalyticRoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // rosenbrockBFGSAnalyticRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -636,6 +590,49 @@ func rosenbrockBFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
 // rosenbrockBFGSAnalyticSquareRoot returns √v.
 func rosenbrockBFGSAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// rosenbrockBFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func rosenbrockBFGSAnalyticLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// rosenbrockBFGSAnalyticGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func rosenbrockBFGSAnalyticGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
+	scale := rosenbrockBFGSAnalyticLarger(rosenbrockBFGSAnalyticAbs(fx), 1)
+	for i := range g {
+		w := rosenbrockBFGSAnalyticLarger(rosenbrockBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = rosenbrockBFGSAnalyticLarger(measure, (rosenbrockBFGSAnalyticAbs(g[i])+e[i])*w)
+		floor = rosenbrockBFGSAnalyticLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// rosenbrockBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func rosenbrockBFGSAnalyticStepWithin(s, x *[2]float64, tol float64) bool {
+	for i := range s {
+		if !(rosenbrockBFGSAnalyticAbs(s[i]) <= tol*(rosenbrockBFGSAnalyticAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // rosenbrockBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the

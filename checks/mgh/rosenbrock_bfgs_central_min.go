@@ -190,11 +190,25 @@ func rosenbrockBFGSCentralMinimize(x0 [2]float64, lim RosenbrockBFGSCentralLimit
 	t, slope := float64(rosenbrockBFGSCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                       // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                             // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                // whether g and e at x come from rosenbrockBFGSCentralConfirmGradient
+	confirmed := false                                                // whether g and e at x come from rosenbrockBFGSCentralConfirmGradient or settle
 	stalled := false                                                  // whether the run can make no more progress at x
 	retried := -1                                                     // the iteration whose stall was retried with recalibrated differences
+	verify := rosenbrockBFGSCentralVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != rosenbrockBFGSCentralVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see rosenbrockBFGSCentralConfirmGradient and settle).
+			calls, ok := rosenbrockBFGSCentralSettle(&x, fx, &g, &e, &diffs, verify == rosenbrockBFGSCentralVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(RosenbrockBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !rosenbrockBFGSCentralFiniteVec(&g) {
+				return best.ending(RosenbrockBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = rosenbrockBFGSCentralVerifyNothing, true
+		case !confirmed:
 			rosenbrockBFGSCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := rosenbrockBFGSCentralGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func rosenbrockBFGSCentralMinimize(x0 [2]float64, lim RosenbrockBFGSCentralLimit
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := rosenbrockBFGSCentralConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(RosenbrockBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !rosenbrockBFGSCentralFiniteVec(&g) {
-				return best.ending(RosenbrockBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = rosenbrockBFGSCentralVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func rosenbrockBFGSCentralMinimize(x0 [2]float64, lim RosenbrockBFGSCentralLimit
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if rosenbrockBFGSCentralStepWithin(&s, &x, lim.Step) {
-				calls, ok := rosenbrockBFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(RosenbrockBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !rosenbrockBFGSCentralFiniteVec(&g) {
-					return best.ending(RosenbrockBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = rosenbrockBFGSCentralVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func rosenbrockBFGSCentralMinimize(x0 [2]float64, lim RosenbrockBFGSCentralLimit
 			case found.rising:
 				end = RosenbrockBFGSCentralNoDecrease
 			case found.end == rosenbrockBFGSCentralSearchTiny && canSettle:
-				calls, ok := rosenbrockBFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(RosenbrockBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !rosenbrockBFGSCentralFiniteVec(&g) {
-					return best.ending(RosenbrockBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = rosenbrockBFGSCentralVerifyStall, true
 				continue
 			case found.end == rosenbrockBFGSCentralSearchTiny:
 				end = RosenbrockBFGSCentralStalled
@@ -633,37 +621,30 @@ func rosenbrockBFGSCentralCurvatureSafe(s, y *[2]float64) bool {
 	return sy > 0 && (sy/rosenbrockBFGSCentralDot(s, s))*(sy/rosenbrockBFGSCentralDot(y, y)) > rosenbrockBFGSCentralUnitRoundoff
 }
 
-// rosenbrockBFGSCentralGradientError bounds each central difference's error by twice its
-// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
-// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
-// in forwardError).
-func rosenbrockBFGSCentralGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *rosenbrockBFGSCentralDifferences) {
-	noise := rosenbrockBFGSCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h := diffs.ratio[i] * rosenbrockBFGSCentralLarger(1, rosenbrockBFGSCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	rosenbrockBFGSCentralVerifyNothing = iota
+	rosenbrockBFGSCentralVerifyPass    // a difference gradient passed the test
+	rosenbrockBFGSCentralVerifyStall   // no step makes progress
+)
 
-// rosenbrockBFGSCentralGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func rosenbrockBFGSCentralGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
-	scale := rosenbrockBFGSCentralLarger(rosenbrockBFGSCentralAbs(fx), 1)
-	for i := range g {
-		w := rosenbrockBFGSCentralLarger(rosenbrockBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = rosenbrockBFGSCentralLarger(measure, (rosenbrockBFGSCentralAbs(g[i])+e[i])*w)
-		floor = rosenbrockBFGSCentralLarger(floor, e[i]*w)
+// rosenbrockBFGSCentralSettle prepares a verdict at x: with differences it confirms the
+// gradient (rosenbrockBFGSCentralConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (rosenbrockBFGSCentralRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func rosenbrockBFGSCentralSettle(x *[2]float64, fx float64, g, e *[2]float64, diffs *rosenbrockBFGSCentralDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if rosenbrockBFGSCentralDerivativeCost > 0 {
+		spent, ok := rosenbrockBFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
+	if stall {
+		rosenbrockBFGSCentralRoundingFloor(x, g, e, diffs)
+	}
+	return calls, true
 }
 
 // rosenbrockBFGSCentralConfirmGradient recomputes a difference gradient at x before the run is
@@ -696,33 +677,16 @@ func rosenbrockBFGSCentralConfirmGradient(x *[2]float64, fx float64, g, e *[2]fl
 	return calls + 2*rosenbrockBFGSCentralDerivativeCost, true
 }
 
-// rosenbrockBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func rosenbrockBFGSCentralStepWithin(s, x *[2]float64, tol float64) bool {
-	for i := range s {
-		if !(rosenbrockBFGSCentralAbs(s[i]) <= tol*(rosenbrockBFGSCentralAbs(x[i])+1)) {
-			return false
-		}
+// rosenbrockBFGSCentralGradientError bounds each central difference's error by twice its
+// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
+// in forwardError).
+func rosenbrockBFGSCentralGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *rosenbrockBFGSCentralDifferences) {
+	noise := rosenbrockBFGSCentralNoiseLevel(x, fx, g)
+	for i := range e {
+		h := diffs.ratio[i] * rosenbrockBFGSCentralLarger(1, rosenbrockBFGSCentralAbs(x[i]))
+		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
 	}
-	return true
-}
-
-// rosenbrockBFGSCentralSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (rosenbrockBFGSCentralConfirmGradient), then it adds to each error
-// bound the rounding floor of x (rosenbrockBFGSCentralRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func rosenbrockBFGSCentralSettle(x *[2]float64, fx float64, g, e *[2]float64, diffs *rosenbrockBFGSCentralDifferences, budget int) (int, bool) {
-	calls := 0
-	if rosenbrockBFGSCentralDerivativeCost > 0 {
-		spent, ok := rosenbrockBFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
-	}
-	rosenbrockBFGSCentralRoundingFloor(x, g, e, diffs)
-	return calls, true
 }
 
 // rosenbrockBFGSCentralRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -743,6 +707,39 @@ func rosenbrockBFGSCentralRoundingFloor(x, g, e *[2]float64, diffs *rosenbrockBF
 // calibration, which rosenbrockBFGSCentralConfirmGradient has just made at x.
 func rosenbrockBFGSCentralDiagonalCurvature(x, g *[2]float64, diffs *rosenbrockBFGSCentralDifferences, h *[2]float64) {
 	*h = diffs.second
+}
+
+// rosenbrockBFGSCentralGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func rosenbrockBFGSCentralGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
+	scale := rosenbrockBFGSCentralLarger(rosenbrockBFGSCentralAbs(fx), 1)
+	for i := range g {
+		w := rosenbrockBFGSCentralLarger(rosenbrockBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = rosenbrockBFGSCentralLarger(measure, (rosenbrockBFGSCentralAbs(g[i])+e[i])*w)
+		floor = rosenbrockBFGSCentralLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// rosenbrockBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func rosenbrockBFGSCentralStepWithin(s, x *[2]float64, tol float64) bool {
+	for i := range s {
+		if !(rosenbrockBFGSCentralAbs(s[i]) <= tol*(rosenbrockBFGSCentralAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // rosenbrockBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the

@@ -190,11 +190,25 @@ func rosenbrockCGAnalyticMinimize(x0 [2]float64, lim RosenbrockCGAnalyticLimits)
 	t, slope := float64(rosenbrockCGAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                      // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                            // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                               // whether g and e at x come from rosenbrockCGAnalyticConfirmGradient
+	confirmed := false                                               // whether g and e at x come from rosenbrockCGAnalyticConfirmGradient or settle
 	stalled := false                                                 // whether the run can make no more progress at x
 	retried := -1                                                    // the iteration whose stall was retried with recalibrated differences
+	verify := rosenbrockCGAnalyticVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != rosenbrockCGAnalyticVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see rosenbrockCGAnalyticConfirmGradient and settle).
+			calls, ok := rosenbrockCGAnalyticSettle(&x, fx, &g, &e, &diffs, verify == rosenbrockCGAnalyticVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(RosenbrockCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !rosenbrockCGAnalyticFiniteVec(&g) {
+				return best.ending(RosenbrockCGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = rosenbrockCGAnalyticVerifyNothing, true
+		case !confirmed:
 			rosenbrockCGAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := rosenbrockCGAnalyticGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func rosenbrockCGAnalyticMinimize(x0 [2]float64, lim RosenbrockCGAnalyticLimits)
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := rosenbrockCGAnalyticConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(RosenbrockCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !rosenbrockCGAnalyticFiniteVec(&g) {
-				return best.ending(RosenbrockCGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = rosenbrockCGAnalyticVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func rosenbrockCGAnalyticMinimize(x0 [2]float64, lim RosenbrockCGAnalyticLimits)
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if rosenbrockCGAnalyticStepWithin(&s, &x, lim.Step) {
-				calls, ok := rosenbrockCGAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(RosenbrockCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !rosenbrockCGAnalyticFiniteVec(&g) {
-					return best.ending(RosenbrockCGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = rosenbrockCGAnalyticVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func rosenbrockCGAnalyticMinimize(x0 [2]float64, lim RosenbrockCGAnalyticLimits)
 			case found.rising:
 				end = RosenbrockCGAnalyticNoDecrease
 			case found.end == rosenbrockCGAnalyticSearchTiny && canSettle:
-				calls, ok := rosenbrockCGAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(RosenbrockCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !rosenbrockCGAnalyticFiniteVec(&g) {
-					return best.ending(RosenbrockCGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = rosenbrockCGAnalyticVerifyStall, true
 				continue
 			case found.end == rosenbrockCGAnalyticSearchTiny:
 				end = RosenbrockCGAnalyticStalled
@@ -482,41 +470,30 @@ func rosenbrockCGAnalyticScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
-// rosenbrockCGAnalyticGradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func rosenbrockCGAnalyticGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *rosenbrockCGAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	rosenbrockCGAnalyticVerifyNothing = iota
+	rosenbrockCGAnalyticVerifyPass    // a difference gradient passed the test
+	rosenbrockCGAnalyticVerifyStall   // no step makes progress
+)
 
-// rosenbrockCGAnalyticGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func rosenbrockCGAnalyticGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
-	scale := rosenbrockCGAnalyticLarger(rosenbrockCGAnalyticAbs(fx), 1)
-	for i := range g {
-		w := rosenbrockCGAnalyticLarger(rosenbrockCGAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = rosenbrockCGAnalyticLarger(measure, (rosenbrockCGAnalyticAbs(g[i])+e[i])*w)
-		floor = rosenbrockCGAnalyticLarger(floor, e[i]*w)
+// rosenbrockCGAnalyticSettle prepares a verdict at x: with differences it confirms the
+// gradient (rosenbrockCGAnalyticConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (rosenbrockCGAnalyticRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func rosenbrockCGAnalyticSettle(x *[2]float64, fx float64, g, e *[2]float64, diffs *rosenbrockCGAnalyticDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if rosenbrockCGAnalyticDerivativeCost > 0 {
+		spent, ok := rosenbrockCGAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// rosenbrockCGAnalyticAbs returns |v|.
-func rosenbrockCGAnalyticAbs(v float64) float64 {
-	if v < 0 {
-		return -v
+	if stall {
+		rosenbrockCGAnalyticRoundingFloor(x, g, e, diffs)
 	}
-	return v
+	return calls, true
 }
 
 // rosenbrockCGAnalyticConfirmGradient recomputes a difference gradient at x before the run is
@@ -549,33 +526,20 @@ func rosenbrockCGAnalyticConfirmGradient(x *[2]float64, fx float64, g, e *[2]flo
 	return calls + 2*rosenbrockCGAnalyticDerivativeCost, true
 }
 
-// rosenbrockCGAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func rosenbrockCGAnalyticStepWithin(s, x *[2]float64, tol float64) bool {
-	for i := range s {
-		if !(rosenbrockCGAnalyticAbs(s[i]) <= tol*(rosenbrockCGAnalyticAbs(x[i])+1)) {
-			return false
-		}
+// rosenbrockCGAnalyticGradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func rosenbrockCGAnalyticGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *rosenbrockCGAnalyticDifferences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// rosenbrockCGAnalyticSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (rosenbrockCGAnalyticConfirmGradient), then it adds to each error
-// bound the rounding floor of x (rosenbrockCGAnalyticRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func rosenbrockCGAnalyticSettle(x *[2]float64, fx float64, g, e *[2]float64, diffs *rosenbrockCGAnalyticDifferences, budget int) (int, bool) {
-	calls := 0
-	if rosenbrockCGAnalyticDerivativeCost > 0 {
-		spent, ok := rosenbrockCGAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// rosenbrockCGAnalyticAbs returns |v|.
+func rosenbrockCGAnalyticAbs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	rosenbrockCGAnalyticRoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // rosenbrockCGAnalyticRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -618,6 +582,39 @@ func rosenbrockCGAnalyticProbeStep(xi, h float64) (float64, float64) {
 // rosenbrockCGAnalyticSquareRoot returns √v.
 func rosenbrockCGAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// rosenbrockCGAnalyticGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func rosenbrockCGAnalyticGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
+	scale := rosenbrockCGAnalyticLarger(rosenbrockCGAnalyticAbs(fx), 1)
+	for i := range g {
+		w := rosenbrockCGAnalyticLarger(rosenbrockCGAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = rosenbrockCGAnalyticLarger(measure, (rosenbrockCGAnalyticAbs(g[i])+e[i])*w)
+		floor = rosenbrockCGAnalyticLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// rosenbrockCGAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func rosenbrockCGAnalyticStepWithin(s, x *[2]float64, tol float64) bool {
+	for i := range s {
+		if !(rosenbrockCGAnalyticAbs(s[i]) <= tol*(rosenbrockCGAnalyticAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // rosenbrockCGAnalyticTinyStep returns the longest t for which the step t·d from x passes the

@@ -190,11 +190,25 @@ func rosenbrockCGCentralMinimize(x0 [2]float64, lim RosenbrockCGCentralLimits) r
 	t, slope := float64(rosenbrockCGCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                     // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                           // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                              // whether g and e at x come from rosenbrockCGCentralConfirmGradient
+	confirmed := false                                              // whether g and e at x come from rosenbrockCGCentralConfirmGradient or settle
 	stalled := false                                                // whether the run can make no more progress at x
 	retried := -1                                                   // the iteration whose stall was retried with recalibrated differences
+	verify := rosenbrockCGCentralVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != rosenbrockCGCentralVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see rosenbrockCGCentralConfirmGradient and settle).
+			calls, ok := rosenbrockCGCentralSettle(&x, fx, &g, &e, &diffs, verify == rosenbrockCGCentralVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(RosenbrockCGCentralOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !rosenbrockCGCentralFiniteVec(&g) {
+				return best.ending(RosenbrockCGCentralNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = rosenbrockCGCentralVerifyNothing, true
+		case !confirmed:
 			rosenbrockCGCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := rosenbrockCGCentralGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func rosenbrockCGCentralMinimize(x0 [2]float64, lim RosenbrockCGCentralLimits) r
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := rosenbrockCGCentralConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(RosenbrockCGCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !rosenbrockCGCentralFiniteVec(&g) {
-				return best.ending(RosenbrockCGCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = rosenbrockCGCentralVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func rosenbrockCGCentralMinimize(x0 [2]float64, lim RosenbrockCGCentralLimits) r
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if rosenbrockCGCentralStepWithin(&s, &x, lim.Step) {
-				calls, ok := rosenbrockCGCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(RosenbrockCGCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !rosenbrockCGCentralFiniteVec(&g) {
-					return best.ending(RosenbrockCGCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = rosenbrockCGCentralVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func rosenbrockCGCentralMinimize(x0 [2]float64, lim RosenbrockCGCentralLimits) r
 			case found.rising:
 				end = RosenbrockCGCentralNoDecrease
 			case found.end == rosenbrockCGCentralSearchTiny && canSettle:
-				calls, ok := rosenbrockCGCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(RosenbrockCGCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !rosenbrockCGCentralFiniteVec(&g) {
-					return best.ending(RosenbrockCGCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = rosenbrockCGCentralVerifyStall, true
 				continue
 			case found.end == rosenbrockCGCentralSearchTiny:
 				end = RosenbrockCGCentralStalled
@@ -615,37 +603,30 @@ func rosenbrockCGCentralScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
-// rosenbrockCGCentralGradientError bounds each central difference's error by twice its
-// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
-// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
-// in forwardError).
-func rosenbrockCGCentralGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *rosenbrockCGCentralDifferences) {
-	noise := rosenbrockCGCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h := diffs.ratio[i] * rosenbrockCGCentralLarger(1, rosenbrockCGCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	rosenbrockCGCentralVerifyNothing = iota
+	rosenbrockCGCentralVerifyPass    // a difference gradient passed the test
+	rosenbrockCGCentralVerifyStall   // no step makes progress
+)
 
-// rosenbrockCGCentralGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func rosenbrockCGCentralGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
-	scale := rosenbrockCGCentralLarger(rosenbrockCGCentralAbs(fx), 1)
-	for i := range g {
-		w := rosenbrockCGCentralLarger(rosenbrockCGCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = rosenbrockCGCentralLarger(measure, (rosenbrockCGCentralAbs(g[i])+e[i])*w)
-		floor = rosenbrockCGCentralLarger(floor, e[i]*w)
+// rosenbrockCGCentralSettle prepares a verdict at x: with differences it confirms the
+// gradient (rosenbrockCGCentralConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (rosenbrockCGCentralRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func rosenbrockCGCentralSettle(x *[2]float64, fx float64, g, e *[2]float64, diffs *rosenbrockCGCentralDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if rosenbrockCGCentralDerivativeCost > 0 {
+		spent, ok := rosenbrockCGCentralConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
+	if stall {
+		rosenbrockCGCentralRoundingFloor(x, g, e, diffs)
+	}
+	return calls, true
 }
 
 // rosenbrockCGCentralConfirmGradient recomputes a difference gradient at x before the run is
@@ -678,33 +659,16 @@ func rosenbrockCGCentralConfirmGradient(x *[2]float64, fx float64, g, e *[2]floa
 	return calls + 2*rosenbrockCGCentralDerivativeCost, true
 }
 
-// rosenbrockCGCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func rosenbrockCGCentralStepWithin(s, x *[2]float64, tol float64) bool {
-	for i := range s {
-		if !(rosenbrockCGCentralAbs(s[i]) <= tol*(rosenbrockCGCentralAbs(x[i])+1)) {
-			return false
-		}
+// rosenbrockCGCentralGradientError bounds each central difference's error by twice its
+// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
+// in forwardError).
+func rosenbrockCGCentralGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *rosenbrockCGCentralDifferences) {
+	noise := rosenbrockCGCentralNoiseLevel(x, fx, g)
+	for i := range e {
+		h := diffs.ratio[i] * rosenbrockCGCentralLarger(1, rosenbrockCGCentralAbs(x[i]))
+		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
 	}
-	return true
-}
-
-// rosenbrockCGCentralSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (rosenbrockCGCentralConfirmGradient), then it adds to each error
-// bound the rounding floor of x (rosenbrockCGCentralRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func rosenbrockCGCentralSettle(x *[2]float64, fx float64, g, e *[2]float64, diffs *rosenbrockCGCentralDifferences, budget int) (int, bool) {
-	calls := 0
-	if rosenbrockCGCentralDerivativeCost > 0 {
-		spent, ok := rosenbrockCGCentralConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
-	}
-	rosenbrockCGCentralRoundingFloor(x, g, e, diffs)
-	return calls, true
 }
 
 // rosenbrockCGCentralRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -725,6 +689,39 @@ func rosenbrockCGCentralRoundingFloor(x, g, e *[2]float64, diffs *rosenbrockCGCe
 // calibration, which rosenbrockCGCentralConfirmGradient has just made at x.
 func rosenbrockCGCentralDiagonalCurvature(x, g *[2]float64, diffs *rosenbrockCGCentralDifferences, h *[2]float64) {
 	*h = diffs.second
+}
+
+// rosenbrockCGCentralGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func rosenbrockCGCentralGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
+	scale := rosenbrockCGCentralLarger(rosenbrockCGCentralAbs(fx), 1)
+	for i := range g {
+		w := rosenbrockCGCentralLarger(rosenbrockCGCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = rosenbrockCGCentralLarger(measure, (rosenbrockCGCentralAbs(g[i])+e[i])*w)
+		floor = rosenbrockCGCentralLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// rosenbrockCGCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func rosenbrockCGCentralStepWithin(s, x *[2]float64, tol float64) bool {
+	for i := range s {
+		if !(rosenbrockCGCentralAbs(s[i]) <= tol*(rosenbrockCGCentralAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // rosenbrockCGCentralTinyStep returns the longest t for which the step t·d from x passes the

@@ -191,11 +191,25 @@ func rosenbrockLBFGSAnalyticMinimize(x0 [2]float64, lim RosenbrockLBFGSAnalyticL
 	t, slope := float64(rosenbrockLBFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                         // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                               // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                  // whether g and e at x come from rosenbrockLBFGSAnalyticConfirmGradient
+	confirmed := false                                                  // whether g and e at x come from rosenbrockLBFGSAnalyticConfirmGradient or settle
 	stalled := false                                                    // whether the run can make no more progress at x
 	retried := -1                                                       // the iteration whose stall was retried with recalibrated differences
+	verify := rosenbrockLBFGSAnalyticVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != rosenbrockLBFGSAnalyticVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see rosenbrockLBFGSAnalyticConfirmGradient and settle).
+			calls, ok := rosenbrockLBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, verify == rosenbrockLBFGSAnalyticVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(RosenbrockLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !rosenbrockLBFGSAnalyticFiniteVec(&g) {
+				return best.ending(RosenbrockLBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = rosenbrockLBFGSAnalyticVerifyNothing, true
+		case !confirmed:
 			rosenbrockLBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := rosenbrockLBFGSAnalyticGradientMeasure(&g, &e, &x, fx)
@@ -213,17 +227,7 @@ func rosenbrockLBFGSAnalyticMinimize(x0 [2]float64, lim RosenbrockLBFGSAnalyticL
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := rosenbrockLBFGSAnalyticConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(RosenbrockLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !rosenbrockLBFGSAnalyticFiniteVec(&g) {
-				return best.ending(RosenbrockLBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = rosenbrockLBFGSAnalyticVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -241,15 +245,7 @@ func rosenbrockLBFGSAnalyticMinimize(x0 [2]float64, lim RosenbrockLBFGSAnalyticL
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if rosenbrockLBFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				calls, ok := rosenbrockLBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(RosenbrockLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !rosenbrockLBFGSAnalyticFiniteVec(&g) {
-					return best.ending(RosenbrockLBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = rosenbrockLBFGSAnalyticVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -290,15 +286,7 @@ func rosenbrockLBFGSAnalyticMinimize(x0 [2]float64, lim RosenbrockLBFGSAnalyticL
 			case found.rising:
 				end = RosenbrockLBFGSAnalyticNoDecrease
 			case found.end == rosenbrockLBFGSAnalyticSearchTiny && canSettle:
-				calls, ok := rosenbrockLBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(RosenbrockLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !rosenbrockLBFGSAnalyticFiniteVec(&g) {
-					return best.ending(RosenbrockLBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = rosenbrockLBFGSAnalyticVerifyStall, true
 				continue
 			case found.end == rosenbrockLBFGSAnalyticSearchTiny:
 				end = RosenbrockLBFGSAnalyticStalled
@@ -516,51 +504,30 @@ func rosenbrockLBFGSAnalyticCurvatureSafe(s, y *[2]float64) bool {
 	return sy > 0 && (sy/rosenbrockLBFGSAnalyticDot(s, s))*(sy/rosenbrockLBFGSAnalyticDot(y, y)) > rosenbrockLBFGSAnalyticUnitRoundoff
 }
 
-// rosenbrockLBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func rosenbrockLBFGSAnalyticGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *rosenbrockLBFGSAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	rosenbrockLBFGSAnalyticVerifyNothing = iota
+	rosenbrockLBFGSAnalyticVerifyPass    // a difference gradient passed the test
+	rosenbrockLBFGSAnalyticVerifyStall   // no step makes progress
+)
 
-// rosenbrockLBFGSAnalyticGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func rosenbrockLBFGSAnalyticGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
-	scale := rosenbrockLBFGSAnalyticLarger(rosenbrockLBFGSAnalyticAbs(fx), 1)
-	for i := range g {
-		w := rosenbrockLBFGSAnalyticLarger(rosenbrockLBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = rosenbrockLBFGSAnalyticLarger(measure, (rosenbrockLBFGSAnalyticAbs(g[i])+e[i])*w)
-		floor = rosenbrockLBFGSAnalyticLarger(floor, e[i]*w)
+// rosenbrockLBFGSAnalyticSettle prepares a verdict at x: with differences it confirms the
+// gradient (rosenbrockLBFGSAnalyticConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (rosenbrockLBFGSAnalyticRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func rosenbrockLBFGSAnalyticSettle(x *[2]float64, fx float64, g, e *[2]float64, diffs *rosenbrockLBFGSAnalyticDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if rosenbrockLBFGSAnalyticDerivativeCost > 0 {
+		spent, ok := rosenbrockLBFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// rosenbrockLBFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func rosenbrockLBFGSAnalyticLarger(a, b float64) float64 {
-	if a > b || a != a {
-		return a
+	if stall {
+		rosenbrockLBFGSAnalyticRoundingFloor(x, g, e, diffs)
 	}
-	return b
-}
-
-// rosenbrockLBFGSAnalyticAbs returns |v|.
-func rosenbrockLBFGSAnalyticAbs(v float64) float64 {
-	if v < 0 {
-		return -v
-	}
-	return v
+	return calls, true
 }
 
 // rosenbrockLBFGSAnalyticConfirmGradient recomputes a difference gradient at x before the run is
@@ -593,33 +560,20 @@ func rosenbrockLBFGSAnalyticConfirmGradient(x *[2]float64, fx float64, g, e *[2]
 	return calls + 2*rosenbrockLBFGSAnalyticDerivativeCost, true
 }
 
-// rosenbrockLBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func rosenbrockLBFGSAnalyticStepWithin(s, x *[2]float64, tol float64) bool {
-	for i := range s {
-		if !(rosenbrockLBFGSAnalyticAbs(s[i]) <= tol*(rosenbrockLBFGSAnalyticAbs(x[i])+1)) {
-			return false
-		}
+// rosenbrockLBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func rosenbrockLBFGSAnalyticGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *rosenbrockLBFGSAnalyticDifferences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// rosenbrockLBFGSAnalyticSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (rosenbrockLBFGSAnalyticConfirmGradient), then it adds to each error
-// bound the rounding floor of x (rosenbrockLBFGSAnalyticRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func rosenbrockLBFGSAnalyticSettle(x *[2]float64, fx float64, g, e *[2]float64, diffs *rosenbrockLBFGSAnalyticDifferences, budget int) (int, bool) {
-	calls := 0
-	if rosenbrockLBFGSAnalyticDerivativeCost > 0 {
-		spent, ok := rosenbrockLBFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// rosenbrockLBFGSAnalyticAbs returns |v|.
+func rosenbrockLBFGSAnalyticAbs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	rosenbrockLBFGSAnalyticRoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // rosenbrockLBFGSAnalyticRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -662,6 +616,49 @@ func rosenbrockLBFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
 // rosenbrockLBFGSAnalyticSquareRoot returns √v.
 func rosenbrockLBFGSAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// rosenbrockLBFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func rosenbrockLBFGSAnalyticLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// rosenbrockLBFGSAnalyticGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func rosenbrockLBFGSAnalyticGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
+	scale := rosenbrockLBFGSAnalyticLarger(rosenbrockLBFGSAnalyticAbs(fx), 1)
+	for i := range g {
+		w := rosenbrockLBFGSAnalyticLarger(rosenbrockLBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = rosenbrockLBFGSAnalyticLarger(measure, (rosenbrockLBFGSAnalyticAbs(g[i])+e[i])*w)
+		floor = rosenbrockLBFGSAnalyticLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// rosenbrockLBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func rosenbrockLBFGSAnalyticStepWithin(s, x *[2]float64, tol float64) bool {
+	for i := range s {
+		if !(rosenbrockLBFGSAnalyticAbs(s[i]) <= tol*(rosenbrockLBFGSAnalyticAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // rosenbrockLBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the

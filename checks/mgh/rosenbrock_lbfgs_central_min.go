@@ -191,11 +191,25 @@ func rosenbrockLBFGSCentralMinimize(x0 [2]float64, lim RosenbrockLBFGSCentralLim
 	t, slope := float64(rosenbrockLBFGSCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                        // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                              // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                 // whether g and e at x come from rosenbrockLBFGSCentralConfirmGradient
+	confirmed := false                                                 // whether g and e at x come from rosenbrockLBFGSCentralConfirmGradient or settle
 	stalled := false                                                   // whether the run can make no more progress at x
 	retried := -1                                                      // the iteration whose stall was retried with recalibrated differences
+	verify := rosenbrockLBFGSCentralVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != rosenbrockLBFGSCentralVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see rosenbrockLBFGSCentralConfirmGradient and settle).
+			calls, ok := rosenbrockLBFGSCentralSettle(&x, fx, &g, &e, &diffs, verify == rosenbrockLBFGSCentralVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(RosenbrockLBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !rosenbrockLBFGSCentralFiniteVec(&g) {
+				return best.ending(RosenbrockLBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = rosenbrockLBFGSCentralVerifyNothing, true
+		case !confirmed:
 			rosenbrockLBFGSCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := rosenbrockLBFGSCentralGradientMeasure(&g, &e, &x, fx)
@@ -213,17 +227,7 @@ func rosenbrockLBFGSCentralMinimize(x0 [2]float64, lim RosenbrockLBFGSCentralLim
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := rosenbrockLBFGSCentralConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(RosenbrockLBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !rosenbrockLBFGSCentralFiniteVec(&g) {
-				return best.ending(RosenbrockLBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = rosenbrockLBFGSCentralVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -241,15 +245,7 @@ func rosenbrockLBFGSCentralMinimize(x0 [2]float64, lim RosenbrockLBFGSCentralLim
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if rosenbrockLBFGSCentralStepWithin(&s, &x, lim.Step) {
-				calls, ok := rosenbrockLBFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(RosenbrockLBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !rosenbrockLBFGSCentralFiniteVec(&g) {
-					return best.ending(RosenbrockLBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = rosenbrockLBFGSCentralVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -290,15 +286,7 @@ func rosenbrockLBFGSCentralMinimize(x0 [2]float64, lim RosenbrockLBFGSCentralLim
 			case found.rising:
 				end = RosenbrockLBFGSCentralNoDecrease
 			case found.end == rosenbrockLBFGSCentralSearchTiny && canSettle:
-				calls, ok := rosenbrockLBFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(RosenbrockLBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !rosenbrockLBFGSCentralFiniteVec(&g) {
-					return best.ending(RosenbrockLBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = rosenbrockLBFGSCentralVerifyStall, true
 				continue
 			case found.end == rosenbrockLBFGSCentralSearchTiny:
 				end = RosenbrockLBFGSCentralStalled
@@ -659,37 +647,30 @@ func rosenbrockLBFGSCentralCurvatureSafe(s, y *[2]float64) bool {
 	return sy > 0 && (sy/rosenbrockLBFGSCentralDot(s, s))*(sy/rosenbrockLBFGSCentralDot(y, y)) > rosenbrockLBFGSCentralUnitRoundoff
 }
 
-// rosenbrockLBFGSCentralGradientError bounds each central difference's error by twice its
-// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
-// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
-// in forwardError).
-func rosenbrockLBFGSCentralGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *rosenbrockLBFGSCentralDifferences) {
-	noise := rosenbrockLBFGSCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h := diffs.ratio[i] * rosenbrockLBFGSCentralLarger(1, rosenbrockLBFGSCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	rosenbrockLBFGSCentralVerifyNothing = iota
+	rosenbrockLBFGSCentralVerifyPass    // a difference gradient passed the test
+	rosenbrockLBFGSCentralVerifyStall   // no step makes progress
+)
 
-// rosenbrockLBFGSCentralGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func rosenbrockLBFGSCentralGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
-	scale := rosenbrockLBFGSCentralLarger(rosenbrockLBFGSCentralAbs(fx), 1)
-	for i := range g {
-		w := rosenbrockLBFGSCentralLarger(rosenbrockLBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = rosenbrockLBFGSCentralLarger(measure, (rosenbrockLBFGSCentralAbs(g[i])+e[i])*w)
-		floor = rosenbrockLBFGSCentralLarger(floor, e[i]*w)
+// rosenbrockLBFGSCentralSettle prepares a verdict at x: with differences it confirms the
+// gradient (rosenbrockLBFGSCentralConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (rosenbrockLBFGSCentralRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func rosenbrockLBFGSCentralSettle(x *[2]float64, fx float64, g, e *[2]float64, diffs *rosenbrockLBFGSCentralDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if rosenbrockLBFGSCentralDerivativeCost > 0 {
+		spent, ok := rosenbrockLBFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
+	if stall {
+		rosenbrockLBFGSCentralRoundingFloor(x, g, e, diffs)
+	}
+	return calls, true
 }
 
 // rosenbrockLBFGSCentralConfirmGradient recomputes a difference gradient at x before the run is
@@ -722,33 +703,16 @@ func rosenbrockLBFGSCentralConfirmGradient(x *[2]float64, fx float64, g, e *[2]f
 	return calls + 2*rosenbrockLBFGSCentralDerivativeCost, true
 }
 
-// rosenbrockLBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func rosenbrockLBFGSCentralStepWithin(s, x *[2]float64, tol float64) bool {
-	for i := range s {
-		if !(rosenbrockLBFGSCentralAbs(s[i]) <= tol*(rosenbrockLBFGSCentralAbs(x[i])+1)) {
-			return false
-		}
+// rosenbrockLBFGSCentralGradientError bounds each central difference's error by twice its
+// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
+// in forwardError).
+func rosenbrockLBFGSCentralGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *rosenbrockLBFGSCentralDifferences) {
+	noise := rosenbrockLBFGSCentralNoiseLevel(x, fx, g)
+	for i := range e {
+		h := diffs.ratio[i] * rosenbrockLBFGSCentralLarger(1, rosenbrockLBFGSCentralAbs(x[i]))
+		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
 	}
-	return true
-}
-
-// rosenbrockLBFGSCentralSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (rosenbrockLBFGSCentralConfirmGradient), then it adds to each error
-// bound the rounding floor of x (rosenbrockLBFGSCentralRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func rosenbrockLBFGSCentralSettle(x *[2]float64, fx float64, g, e *[2]float64, diffs *rosenbrockLBFGSCentralDifferences, budget int) (int, bool) {
-	calls := 0
-	if rosenbrockLBFGSCentralDerivativeCost > 0 {
-		spent, ok := rosenbrockLBFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
-	}
-	rosenbrockLBFGSCentralRoundingFloor(x, g, e, diffs)
-	return calls, true
 }
 
 // rosenbrockLBFGSCentralRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -769,6 +733,39 @@ func rosenbrockLBFGSCentralRoundingFloor(x, g, e *[2]float64, diffs *rosenbrockL
 // calibration, which rosenbrockLBFGSCentralConfirmGradient has just made at x.
 func rosenbrockLBFGSCentralDiagonalCurvature(x, g *[2]float64, diffs *rosenbrockLBFGSCentralDifferences, h *[2]float64) {
 	*h = diffs.second
+}
+
+// rosenbrockLBFGSCentralGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func rosenbrockLBFGSCentralGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
+	scale := rosenbrockLBFGSCentralLarger(rosenbrockLBFGSCentralAbs(fx), 1)
+	for i := range g {
+		w := rosenbrockLBFGSCentralLarger(rosenbrockLBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = rosenbrockLBFGSCentralLarger(measure, (rosenbrockLBFGSCentralAbs(g[i])+e[i])*w)
+		floor = rosenbrockLBFGSCentralLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// rosenbrockLBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func rosenbrockLBFGSCentralStepWithin(s, x *[2]float64, tol float64) bool {
+	for i := range s {
+		if !(rosenbrockLBFGSCentralAbs(s[i]) <= tol*(rosenbrockLBFGSCentralAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // rosenbrockLBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the

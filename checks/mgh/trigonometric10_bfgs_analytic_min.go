@@ -190,11 +190,25 @@ func trigonometric10BFGSAnalyticMinimize(x0 [10]float64, lim Trigonometric10BFGS
 	t, slope := float64(trigonometric10BFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                             // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                                   // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                      // whether g and e at x come from trigonometric10BFGSAnalyticConfirmGradient
+	confirmed := false                                                      // whether g and e at x come from trigonometric10BFGSAnalyticConfirmGradient or settle
 	stalled := false                                                        // whether the run can make no more progress at x
 	retried := -1                                                           // the iteration whose stall was retried with recalibrated differences
+	verify := trigonometric10BFGSAnalyticVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != trigonometric10BFGSAnalyticVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see trigonometric10BFGSAnalyticConfirmGradient and settle).
+			calls, ok := trigonometric10BFGSAnalyticSettle(&x, fx, &g, &e, &diffs, verify == trigonometric10BFGSAnalyticVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(Trigonometric10BFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !trigonometric10BFGSAnalyticFiniteVec(&g) {
+				return best.ending(Trigonometric10BFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = trigonometric10BFGSAnalyticVerifyNothing, true
+		case !confirmed:
 			trigonometric10BFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := trigonometric10BFGSAnalyticGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func trigonometric10BFGSAnalyticMinimize(x0 [10]float64, lim Trigonometric10BFGS
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := trigonometric10BFGSAnalyticConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(Trigonometric10BFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !trigonometric10BFGSAnalyticFiniteVec(&g) {
-				return best.ending(Trigonometric10BFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = trigonometric10BFGSAnalyticVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func trigonometric10BFGSAnalyticMinimize(x0 [10]float64, lim Trigonometric10BFGS
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if trigonometric10BFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				calls, ok := trigonometric10BFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(Trigonometric10BFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !trigonometric10BFGSAnalyticFiniteVec(&g) {
-					return best.ending(Trigonometric10BFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = trigonometric10BFGSAnalyticVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func trigonometric10BFGSAnalyticMinimize(x0 [10]float64, lim Trigonometric10BFGS
 			case found.rising:
 				end = Trigonometric10BFGSAnalyticNoDecrease
 			case found.end == trigonometric10BFGSAnalyticSearchTiny && canSettle:
-				calls, ok := trigonometric10BFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(Trigonometric10BFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !trigonometric10BFGSAnalyticFiniteVec(&g) {
-					return best.ending(Trigonometric10BFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = trigonometric10BFGSAnalyticVerifyStall, true
 				continue
 			case found.end == trigonometric10BFGSAnalyticSearchTiny:
 				end = Trigonometric10BFGSAnalyticStalled
@@ -490,51 +478,30 @@ func trigonometric10BFGSAnalyticCurvatureSafe(s, y *[10]float64) bool {
 	return sy > 0 && (sy/trigonometric10BFGSAnalyticDot(s, s))*(sy/trigonometric10BFGSAnalyticDot(y, y)) > trigonometric10BFGSAnalyticUnitRoundoff
 }
 
-// trigonometric10BFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func trigonometric10BFGSAnalyticGradientError(x *[10]float64, fx float64, g, e *[10]float64, diffs *trigonometric10BFGSAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	trigonometric10BFGSAnalyticVerifyNothing = iota
+	trigonometric10BFGSAnalyticVerifyPass    // a difference gradient passed the test
+	trigonometric10BFGSAnalyticVerifyStall   // no step makes progress
+)
 
-// trigonometric10BFGSAnalyticGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func trigonometric10BFGSAnalyticGradientMeasure(g, e, x *[10]float64, fx float64) (measure, floor float64) {
-	scale := trigonometric10BFGSAnalyticLarger(trigonometric10BFGSAnalyticAbs(fx), 1)
-	for i := range g {
-		w := trigonometric10BFGSAnalyticLarger(trigonometric10BFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = trigonometric10BFGSAnalyticLarger(measure, (trigonometric10BFGSAnalyticAbs(g[i])+e[i])*w)
-		floor = trigonometric10BFGSAnalyticLarger(floor, e[i]*w)
+// trigonometric10BFGSAnalyticSettle prepares a verdict at x: with differences it confirms the
+// gradient (trigonometric10BFGSAnalyticConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (trigonometric10BFGSAnalyticRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func trigonometric10BFGSAnalyticSettle(x *[10]float64, fx float64, g, e *[10]float64, diffs *trigonometric10BFGSAnalyticDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if trigonometric10BFGSAnalyticDerivativeCost > 0 {
+		spent, ok := trigonometric10BFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// trigonometric10BFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func trigonometric10BFGSAnalyticLarger(a, b float64) float64 {
-	if a > b || a != a {
-		return a
+	if stall {
+		trigonometric10BFGSAnalyticRoundingFloor(x, g, e, diffs)
 	}
-	return b
-}
-
-// trigonometric10BFGSAnalyticAbs returns |v|.
-func trigonometric10BFGSAnalyticAbs(v float64) float64 {
-	if v < 0 {
-		return -v
-	}
-	return v
+	return calls, true
 }
 
 // trigonometric10BFGSAnalyticConfirmGradient recomputes a difference gradient at x before the run is
@@ -567,33 +534,20 @@ func trigonometric10BFGSAnalyticConfirmGradient(x *[10]float64, fx float64, g, e
 	return calls + 2*trigonometric10BFGSAnalyticDerivativeCost, true
 }
 
-// trigonometric10BFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func trigonometric10BFGSAnalyticStepWithin(s, x *[10]float64, tol float64) bool {
-	for i := range s {
-		if !(trigonometric10BFGSAnalyticAbs(s[i]) <= tol*(trigonometric10BFGSAnalyticAbs(x[i])+1)) {
-			return false
-		}
+// trigonometric10BFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func trigonometric10BFGSAnalyticGradientError(x *[10]float64, fx float64, g, e *[10]float64, diffs *trigonometric10BFGSAnalyticDifferences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// trigonometric10BFGSAnalyticSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (trigonometric10BFGSAnalyticConfirmGradient), then it adds to each error
-// bound the rounding floor of x (trigonometric10BFGSAnalyticRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func trigonometric10BFGSAnalyticSettle(x *[10]float64, fx float64, g, e *[10]float64, diffs *trigonometric10BFGSAnalyticDifferences, budget int) (int, bool) {
-	calls := 0
-	if trigonometric10BFGSAnalyticDerivativeCost > 0 {
-		spent, ok := trigonometric10BFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// trigonometric10BFGSAnalyticAbs returns |v|.
+func trigonometric10BFGSAnalyticAbs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	trigonometric10BFGSAnalyticRoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // trigonometric10BFGSAnalyticRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -636,6 +590,49 @@ func trigonometric10BFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
 // trigonometric10BFGSAnalyticSquareRoot returns √v.
 func trigonometric10BFGSAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// trigonometric10BFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func trigonometric10BFGSAnalyticLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// trigonometric10BFGSAnalyticGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func trigonometric10BFGSAnalyticGradientMeasure(g, e, x *[10]float64, fx float64) (measure, floor float64) {
+	scale := trigonometric10BFGSAnalyticLarger(trigonometric10BFGSAnalyticAbs(fx), 1)
+	for i := range g {
+		w := trigonometric10BFGSAnalyticLarger(trigonometric10BFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = trigonometric10BFGSAnalyticLarger(measure, (trigonometric10BFGSAnalyticAbs(g[i])+e[i])*w)
+		floor = trigonometric10BFGSAnalyticLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// trigonometric10BFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func trigonometric10BFGSAnalyticStepWithin(s, x *[10]float64, tol float64) bool {
+	for i := range s {
+		if !(trigonometric10BFGSAnalyticAbs(s[i]) <= tol*(trigonometric10BFGSAnalyticAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // trigonometric10BFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the

@@ -190,11 +190,25 @@ func trigonometric10BFGSCentralMinimize(x0 [10]float64, lim Trigonometric10BFGSC
 	t, slope := float64(trigonometric10BFGSCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                            // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                                  // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                     // whether g and e at x come from trigonometric10BFGSCentralConfirmGradient
+	confirmed := false                                                     // whether g and e at x come from trigonometric10BFGSCentralConfirmGradient or settle
 	stalled := false                                                       // whether the run can make no more progress at x
 	retried := -1                                                          // the iteration whose stall was retried with recalibrated differences
+	verify := trigonometric10BFGSCentralVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != trigonometric10BFGSCentralVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see trigonometric10BFGSCentralConfirmGradient and settle).
+			calls, ok := trigonometric10BFGSCentralSettle(&x, fx, &g, &e, &diffs, verify == trigonometric10BFGSCentralVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(Trigonometric10BFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !trigonometric10BFGSCentralFiniteVec(&g) {
+				return best.ending(Trigonometric10BFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = trigonometric10BFGSCentralVerifyNothing, true
+		case !confirmed:
 			trigonometric10BFGSCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := trigonometric10BFGSCentralGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func trigonometric10BFGSCentralMinimize(x0 [10]float64, lim Trigonometric10BFGSC
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := trigonometric10BFGSCentralConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(Trigonometric10BFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !trigonometric10BFGSCentralFiniteVec(&g) {
-				return best.ending(Trigonometric10BFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = trigonometric10BFGSCentralVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func trigonometric10BFGSCentralMinimize(x0 [10]float64, lim Trigonometric10BFGSC
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if trigonometric10BFGSCentralStepWithin(&s, &x, lim.Step) {
-				calls, ok := trigonometric10BFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(Trigonometric10BFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !trigonometric10BFGSCentralFiniteVec(&g) {
-					return best.ending(Trigonometric10BFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = trigonometric10BFGSCentralVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func trigonometric10BFGSCentralMinimize(x0 [10]float64, lim Trigonometric10BFGSC
 			case found.rising:
 				end = Trigonometric10BFGSCentralNoDecrease
 			case found.end == trigonometric10BFGSCentralSearchTiny && canSettle:
-				calls, ok := trigonometric10BFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(Trigonometric10BFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !trigonometric10BFGSCentralFiniteVec(&g) {
-					return best.ending(Trigonometric10BFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = trigonometric10BFGSCentralVerifyStall, true
 				continue
 			case found.end == trigonometric10BFGSCentralSearchTiny:
 				end = Trigonometric10BFGSCentralStalled
@@ -633,37 +621,30 @@ func trigonometric10BFGSCentralCurvatureSafe(s, y *[10]float64) bool {
 	return sy > 0 && (sy/trigonometric10BFGSCentralDot(s, s))*(sy/trigonometric10BFGSCentralDot(y, y)) > trigonometric10BFGSCentralUnitRoundoff
 }
 
-// trigonometric10BFGSCentralGradientError bounds each central difference's error by twice its
-// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
-// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
-// in forwardError).
-func trigonometric10BFGSCentralGradientError(x *[10]float64, fx float64, g, e *[10]float64, diffs *trigonometric10BFGSCentralDifferences) {
-	noise := trigonometric10BFGSCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h := diffs.ratio[i] * trigonometric10BFGSCentralLarger(1, trigonometric10BFGSCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	trigonometric10BFGSCentralVerifyNothing = iota
+	trigonometric10BFGSCentralVerifyPass    // a difference gradient passed the test
+	trigonometric10BFGSCentralVerifyStall   // no step makes progress
+)
 
-// trigonometric10BFGSCentralGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func trigonometric10BFGSCentralGradientMeasure(g, e, x *[10]float64, fx float64) (measure, floor float64) {
-	scale := trigonometric10BFGSCentralLarger(trigonometric10BFGSCentralAbs(fx), 1)
-	for i := range g {
-		w := trigonometric10BFGSCentralLarger(trigonometric10BFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = trigonometric10BFGSCentralLarger(measure, (trigonometric10BFGSCentralAbs(g[i])+e[i])*w)
-		floor = trigonometric10BFGSCentralLarger(floor, e[i]*w)
+// trigonometric10BFGSCentralSettle prepares a verdict at x: with differences it confirms the
+// gradient (trigonometric10BFGSCentralConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (trigonometric10BFGSCentralRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func trigonometric10BFGSCentralSettle(x *[10]float64, fx float64, g, e *[10]float64, diffs *trigonometric10BFGSCentralDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if trigonometric10BFGSCentralDerivativeCost > 0 {
+		spent, ok := trigonometric10BFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
+	if stall {
+		trigonometric10BFGSCentralRoundingFloor(x, g, e, diffs)
+	}
+	return calls, true
 }
 
 // trigonometric10BFGSCentralConfirmGradient recomputes a difference gradient at x before the run is
@@ -696,33 +677,16 @@ func trigonometric10BFGSCentralConfirmGradient(x *[10]float64, fx float64, g, e 
 	return calls + 2*trigonometric10BFGSCentralDerivativeCost, true
 }
 
-// trigonometric10BFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func trigonometric10BFGSCentralStepWithin(s, x *[10]float64, tol float64) bool {
-	for i := range s {
-		if !(trigonometric10BFGSCentralAbs(s[i]) <= tol*(trigonometric10BFGSCentralAbs(x[i])+1)) {
-			return false
-		}
+// trigonometric10BFGSCentralGradientError bounds each central difference's error by twice its
+// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
+// in forwardError).
+func trigonometric10BFGSCentralGradientError(x *[10]float64, fx float64, g, e *[10]float64, diffs *trigonometric10BFGSCentralDifferences) {
+	noise := trigonometric10BFGSCentralNoiseLevel(x, fx, g)
+	for i := range e {
+		h := diffs.ratio[i] * trigonometric10BFGSCentralLarger(1, trigonometric10BFGSCentralAbs(x[i]))
+		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
 	}
-	return true
-}
-
-// trigonometric10BFGSCentralSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (trigonometric10BFGSCentralConfirmGradient), then it adds to each error
-// bound the rounding floor of x (trigonometric10BFGSCentralRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func trigonometric10BFGSCentralSettle(x *[10]float64, fx float64, g, e *[10]float64, diffs *trigonometric10BFGSCentralDifferences, budget int) (int, bool) {
-	calls := 0
-	if trigonometric10BFGSCentralDerivativeCost > 0 {
-		spent, ok := trigonometric10BFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
-	}
-	trigonometric10BFGSCentralRoundingFloor(x, g, e, diffs)
-	return calls, true
 }
 
 // trigonometric10BFGSCentralRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -743,6 +707,39 @@ func trigonometric10BFGSCentralRoundingFloor(x, g, e *[10]float64, diffs *trigon
 // calibration, which trigonometric10BFGSCentralConfirmGradient has just made at x.
 func trigonometric10BFGSCentralDiagonalCurvature(x, g *[10]float64, diffs *trigonometric10BFGSCentralDifferences, h *[10]float64) {
 	*h = diffs.second
+}
+
+// trigonometric10BFGSCentralGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func trigonometric10BFGSCentralGradientMeasure(g, e, x *[10]float64, fx float64) (measure, floor float64) {
+	scale := trigonometric10BFGSCentralLarger(trigonometric10BFGSCentralAbs(fx), 1)
+	for i := range g {
+		w := trigonometric10BFGSCentralLarger(trigonometric10BFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = trigonometric10BFGSCentralLarger(measure, (trigonometric10BFGSCentralAbs(g[i])+e[i])*w)
+		floor = trigonometric10BFGSCentralLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// trigonometric10BFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func trigonometric10BFGSCentralStepWithin(s, x *[10]float64, tol float64) bool {
+	for i := range s {
+		if !(trigonometric10BFGSCentralAbs(s[i]) <= tol*(trigonometric10BFGSCentralAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // trigonometric10BFGSCentralTinyStep returns the longest t for which the step t·d from x passes the

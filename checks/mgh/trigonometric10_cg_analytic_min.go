@@ -190,11 +190,25 @@ func trigonometric10CGAnalyticMinimize(x0 [10]float64, lim Trigonometric10CGAnal
 	t, slope := float64(trigonometric10CGAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                           // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                                 // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                    // whether g and e at x come from trigonometric10CGAnalyticConfirmGradient
+	confirmed := false                                                    // whether g and e at x come from trigonometric10CGAnalyticConfirmGradient or settle
 	stalled := false                                                      // whether the run can make no more progress at x
 	retried := -1                                                         // the iteration whose stall was retried with recalibrated differences
+	verify := trigonometric10CGAnalyticVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != trigonometric10CGAnalyticVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see trigonometric10CGAnalyticConfirmGradient and settle).
+			calls, ok := trigonometric10CGAnalyticSettle(&x, fx, &g, &e, &diffs, verify == trigonometric10CGAnalyticVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(Trigonometric10CGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !trigonometric10CGAnalyticFiniteVec(&g) {
+				return best.ending(Trigonometric10CGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = trigonometric10CGAnalyticVerifyNothing, true
+		case !confirmed:
 			trigonometric10CGAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := trigonometric10CGAnalyticGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func trigonometric10CGAnalyticMinimize(x0 [10]float64, lim Trigonometric10CGAnal
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := trigonometric10CGAnalyticConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(Trigonometric10CGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !trigonometric10CGAnalyticFiniteVec(&g) {
-				return best.ending(Trigonometric10CGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = trigonometric10CGAnalyticVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func trigonometric10CGAnalyticMinimize(x0 [10]float64, lim Trigonometric10CGAnal
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if trigonometric10CGAnalyticStepWithin(&s, &x, lim.Step) {
-				calls, ok := trigonometric10CGAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(Trigonometric10CGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !trigonometric10CGAnalyticFiniteVec(&g) {
-					return best.ending(Trigonometric10CGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = trigonometric10CGAnalyticVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func trigonometric10CGAnalyticMinimize(x0 [10]float64, lim Trigonometric10CGAnal
 			case found.rising:
 				end = Trigonometric10CGAnalyticNoDecrease
 			case found.end == trigonometric10CGAnalyticSearchTiny && canSettle:
-				calls, ok := trigonometric10CGAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(Trigonometric10CGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !trigonometric10CGAnalyticFiniteVec(&g) {
-					return best.ending(Trigonometric10CGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = trigonometric10CGAnalyticVerifyStall, true
 				continue
 			case found.end == trigonometric10CGAnalyticSearchTiny:
 				end = Trigonometric10CGAnalyticStalled
@@ -482,41 +470,30 @@ func trigonometric10CGAnalyticScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
-// trigonometric10CGAnalyticGradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func trigonometric10CGAnalyticGradientError(x *[10]float64, fx float64, g, e *[10]float64, diffs *trigonometric10CGAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	trigonometric10CGAnalyticVerifyNothing = iota
+	trigonometric10CGAnalyticVerifyPass    // a difference gradient passed the test
+	trigonometric10CGAnalyticVerifyStall   // no step makes progress
+)
 
-// trigonometric10CGAnalyticGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func trigonometric10CGAnalyticGradientMeasure(g, e, x *[10]float64, fx float64) (measure, floor float64) {
-	scale := trigonometric10CGAnalyticLarger(trigonometric10CGAnalyticAbs(fx), 1)
-	for i := range g {
-		w := trigonometric10CGAnalyticLarger(trigonometric10CGAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = trigonometric10CGAnalyticLarger(measure, (trigonometric10CGAnalyticAbs(g[i])+e[i])*w)
-		floor = trigonometric10CGAnalyticLarger(floor, e[i]*w)
+// trigonometric10CGAnalyticSettle prepares a verdict at x: with differences it confirms the
+// gradient (trigonometric10CGAnalyticConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (trigonometric10CGAnalyticRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func trigonometric10CGAnalyticSettle(x *[10]float64, fx float64, g, e *[10]float64, diffs *trigonometric10CGAnalyticDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if trigonometric10CGAnalyticDerivativeCost > 0 {
+		spent, ok := trigonometric10CGAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// trigonometric10CGAnalyticAbs returns |v|.
-func trigonometric10CGAnalyticAbs(v float64) float64 {
-	if v < 0 {
-		return -v
+	if stall {
+		trigonometric10CGAnalyticRoundingFloor(x, g, e, diffs)
 	}
-	return v
+	return calls, true
 }
 
 // trigonometric10CGAnalyticConfirmGradient recomputes a difference gradient at x before the run is
@@ -549,33 +526,20 @@ func trigonometric10CGAnalyticConfirmGradient(x *[10]float64, fx float64, g, e *
 	return calls + 2*trigonometric10CGAnalyticDerivativeCost, true
 }
 
-// trigonometric10CGAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func trigonometric10CGAnalyticStepWithin(s, x *[10]float64, tol float64) bool {
-	for i := range s {
-		if !(trigonometric10CGAnalyticAbs(s[i]) <= tol*(trigonometric10CGAnalyticAbs(x[i])+1)) {
-			return false
-		}
+// trigonometric10CGAnalyticGradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func trigonometric10CGAnalyticGradientError(x *[10]float64, fx float64, g, e *[10]float64, diffs *trigonometric10CGAnalyticDifferences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// trigonometric10CGAnalyticSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (trigonometric10CGAnalyticConfirmGradient), then it adds to each error
-// bound the rounding floor of x (trigonometric10CGAnalyticRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func trigonometric10CGAnalyticSettle(x *[10]float64, fx float64, g, e *[10]float64, diffs *trigonometric10CGAnalyticDifferences, budget int) (int, bool) {
-	calls := 0
-	if trigonometric10CGAnalyticDerivativeCost > 0 {
-		spent, ok := trigonometric10CGAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// trigonometric10CGAnalyticAbs returns |v|.
+func trigonometric10CGAnalyticAbs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	trigonometric10CGAnalyticRoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // trigonometric10CGAnalyticRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -618,6 +582,39 @@ func trigonometric10CGAnalyticProbeStep(xi, h float64) (float64, float64) {
 // trigonometric10CGAnalyticSquareRoot returns √v.
 func trigonometric10CGAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// trigonometric10CGAnalyticGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func trigonometric10CGAnalyticGradientMeasure(g, e, x *[10]float64, fx float64) (measure, floor float64) {
+	scale := trigonometric10CGAnalyticLarger(trigonometric10CGAnalyticAbs(fx), 1)
+	for i := range g {
+		w := trigonometric10CGAnalyticLarger(trigonometric10CGAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = trigonometric10CGAnalyticLarger(measure, (trigonometric10CGAnalyticAbs(g[i])+e[i])*w)
+		floor = trigonometric10CGAnalyticLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// trigonometric10CGAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func trigonometric10CGAnalyticStepWithin(s, x *[10]float64, tol float64) bool {
+	for i := range s {
+		if !(trigonometric10CGAnalyticAbs(s[i]) <= tol*(trigonometric10CGAnalyticAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // trigonometric10CGAnalyticTinyStep returns the longest t for which the step t·d from x passes the

@@ -190,11 +190,25 @@ func trigonometric10CGCentralMinimize(x0 [10]float64, lim Trigonometric10CGCentr
 	t, slope := float64(trigonometric10CGCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                          // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                                // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                   // whether g and e at x come from trigonometric10CGCentralConfirmGradient
+	confirmed := false                                                   // whether g and e at x come from trigonometric10CGCentralConfirmGradient or settle
 	stalled := false                                                     // whether the run can make no more progress at x
 	retried := -1                                                        // the iteration whose stall was retried with recalibrated differences
+	verify := trigonometric10CGCentralVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != trigonometric10CGCentralVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see trigonometric10CGCentralConfirmGradient and settle).
+			calls, ok := trigonometric10CGCentralSettle(&x, fx, &g, &e, &diffs, verify == trigonometric10CGCentralVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(Trigonometric10CGCentralOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !trigonometric10CGCentralFiniteVec(&g) {
+				return best.ending(Trigonometric10CGCentralNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = trigonometric10CGCentralVerifyNothing, true
+		case !confirmed:
 			trigonometric10CGCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := trigonometric10CGCentralGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func trigonometric10CGCentralMinimize(x0 [10]float64, lim Trigonometric10CGCentr
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := trigonometric10CGCentralConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(Trigonometric10CGCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !trigonometric10CGCentralFiniteVec(&g) {
-				return best.ending(Trigonometric10CGCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = trigonometric10CGCentralVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func trigonometric10CGCentralMinimize(x0 [10]float64, lim Trigonometric10CGCentr
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if trigonometric10CGCentralStepWithin(&s, &x, lim.Step) {
-				calls, ok := trigonometric10CGCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(Trigonometric10CGCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !trigonometric10CGCentralFiniteVec(&g) {
-					return best.ending(Trigonometric10CGCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = trigonometric10CGCentralVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func trigonometric10CGCentralMinimize(x0 [10]float64, lim Trigonometric10CGCentr
 			case found.rising:
 				end = Trigonometric10CGCentralNoDecrease
 			case found.end == trigonometric10CGCentralSearchTiny && canSettle:
-				calls, ok := trigonometric10CGCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(Trigonometric10CGCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !trigonometric10CGCentralFiniteVec(&g) {
-					return best.ending(Trigonometric10CGCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = trigonometric10CGCentralVerifyStall, true
 				continue
 			case found.end == trigonometric10CGCentralSearchTiny:
 				end = Trigonometric10CGCentralStalled
@@ -615,37 +603,30 @@ func trigonometric10CGCentralScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
-// trigonometric10CGCentralGradientError bounds each central difference's error by twice its
-// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
-// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
-// in forwardError).
-func trigonometric10CGCentralGradientError(x *[10]float64, fx float64, g, e *[10]float64, diffs *trigonometric10CGCentralDifferences) {
-	noise := trigonometric10CGCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h := diffs.ratio[i] * trigonometric10CGCentralLarger(1, trigonometric10CGCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	trigonometric10CGCentralVerifyNothing = iota
+	trigonometric10CGCentralVerifyPass    // a difference gradient passed the test
+	trigonometric10CGCentralVerifyStall   // no step makes progress
+)
 
-// trigonometric10CGCentralGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func trigonometric10CGCentralGradientMeasure(g, e, x *[10]float64, fx float64) (measure, floor float64) {
-	scale := trigonometric10CGCentralLarger(trigonometric10CGCentralAbs(fx), 1)
-	for i := range g {
-		w := trigonometric10CGCentralLarger(trigonometric10CGCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = trigonometric10CGCentralLarger(measure, (trigonometric10CGCentralAbs(g[i])+e[i])*w)
-		floor = trigonometric10CGCentralLarger(floor, e[i]*w)
+// trigonometric10CGCentralSettle prepares a verdict at x: with differences it confirms the
+// gradient (trigonometric10CGCentralConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (trigonometric10CGCentralRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func trigonometric10CGCentralSettle(x *[10]float64, fx float64, g, e *[10]float64, diffs *trigonometric10CGCentralDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if trigonometric10CGCentralDerivativeCost > 0 {
+		spent, ok := trigonometric10CGCentralConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
+	if stall {
+		trigonometric10CGCentralRoundingFloor(x, g, e, diffs)
+	}
+	return calls, true
 }
 
 // trigonometric10CGCentralConfirmGradient recomputes a difference gradient at x before the run is
@@ -678,33 +659,16 @@ func trigonometric10CGCentralConfirmGradient(x *[10]float64, fx float64, g, e *[
 	return calls + 2*trigonometric10CGCentralDerivativeCost, true
 }
 
-// trigonometric10CGCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func trigonometric10CGCentralStepWithin(s, x *[10]float64, tol float64) bool {
-	for i := range s {
-		if !(trigonometric10CGCentralAbs(s[i]) <= tol*(trigonometric10CGCentralAbs(x[i])+1)) {
-			return false
-		}
+// trigonometric10CGCentralGradientError bounds each central difference's error by twice its
+// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
+// in forwardError).
+func trigonometric10CGCentralGradientError(x *[10]float64, fx float64, g, e *[10]float64, diffs *trigonometric10CGCentralDifferences) {
+	noise := trigonometric10CGCentralNoiseLevel(x, fx, g)
+	for i := range e {
+		h := diffs.ratio[i] * trigonometric10CGCentralLarger(1, trigonometric10CGCentralAbs(x[i]))
+		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
 	}
-	return true
-}
-
-// trigonometric10CGCentralSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (trigonometric10CGCentralConfirmGradient), then it adds to each error
-// bound the rounding floor of x (trigonometric10CGCentralRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func trigonometric10CGCentralSettle(x *[10]float64, fx float64, g, e *[10]float64, diffs *trigonometric10CGCentralDifferences, budget int) (int, bool) {
-	calls := 0
-	if trigonometric10CGCentralDerivativeCost > 0 {
-		spent, ok := trigonometric10CGCentralConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
-	}
-	trigonometric10CGCentralRoundingFloor(x, g, e, diffs)
-	return calls, true
 }
 
 // trigonometric10CGCentralRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -725,6 +689,39 @@ func trigonometric10CGCentralRoundingFloor(x, g, e *[10]float64, diffs *trigonom
 // calibration, which trigonometric10CGCentralConfirmGradient has just made at x.
 func trigonometric10CGCentralDiagonalCurvature(x, g *[10]float64, diffs *trigonometric10CGCentralDifferences, h *[10]float64) {
 	*h = diffs.second
+}
+
+// trigonometric10CGCentralGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func trigonometric10CGCentralGradientMeasure(g, e, x *[10]float64, fx float64) (measure, floor float64) {
+	scale := trigonometric10CGCentralLarger(trigonometric10CGCentralAbs(fx), 1)
+	for i := range g {
+		w := trigonometric10CGCentralLarger(trigonometric10CGCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = trigonometric10CGCentralLarger(measure, (trigonometric10CGCentralAbs(g[i])+e[i])*w)
+		floor = trigonometric10CGCentralLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// trigonometric10CGCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func trigonometric10CGCentralStepWithin(s, x *[10]float64, tol float64) bool {
+	for i := range s {
+		if !(trigonometric10CGCentralAbs(s[i]) <= tol*(trigonometric10CGCentralAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // trigonometric10CGCentralTinyStep returns the longest t for which the step t·d from x passes the

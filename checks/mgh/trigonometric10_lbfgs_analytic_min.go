@@ -191,11 +191,25 @@ func trigonometric10LBFGSAnalyticMinimize(x0 [10]float64, lim Trigonometric10LBF
 	t, slope := float64(trigonometric10LBFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                              // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                                    // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                       // whether g and e at x come from trigonometric10LBFGSAnalyticConfirmGradient
+	confirmed := false                                                       // whether g and e at x come from trigonometric10LBFGSAnalyticConfirmGradient or settle
 	stalled := false                                                         // whether the run can make no more progress at x
 	retried := -1                                                            // the iteration whose stall was retried with recalibrated differences
+	verify := trigonometric10LBFGSAnalyticVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != trigonometric10LBFGSAnalyticVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see trigonometric10LBFGSAnalyticConfirmGradient and settle).
+			calls, ok := trigonometric10LBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, verify == trigonometric10LBFGSAnalyticVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(Trigonometric10LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !trigonometric10LBFGSAnalyticFiniteVec(&g) {
+				return best.ending(Trigonometric10LBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = trigonometric10LBFGSAnalyticVerifyNothing, true
+		case !confirmed:
 			trigonometric10LBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := trigonometric10LBFGSAnalyticGradientMeasure(&g, &e, &x, fx)
@@ -213,17 +227,7 @@ func trigonometric10LBFGSAnalyticMinimize(x0 [10]float64, lim Trigonometric10LBF
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := trigonometric10LBFGSAnalyticConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(Trigonometric10LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !trigonometric10LBFGSAnalyticFiniteVec(&g) {
-				return best.ending(Trigonometric10LBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = trigonometric10LBFGSAnalyticVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -241,15 +245,7 @@ func trigonometric10LBFGSAnalyticMinimize(x0 [10]float64, lim Trigonometric10LBF
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if trigonometric10LBFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				calls, ok := trigonometric10LBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(Trigonometric10LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !trigonometric10LBFGSAnalyticFiniteVec(&g) {
-					return best.ending(Trigonometric10LBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = trigonometric10LBFGSAnalyticVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -290,15 +286,7 @@ func trigonometric10LBFGSAnalyticMinimize(x0 [10]float64, lim Trigonometric10LBF
 			case found.rising:
 				end = Trigonometric10LBFGSAnalyticNoDecrease
 			case found.end == trigonometric10LBFGSAnalyticSearchTiny && canSettle:
-				calls, ok := trigonometric10LBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(Trigonometric10LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !trigonometric10LBFGSAnalyticFiniteVec(&g) {
-					return best.ending(Trigonometric10LBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = trigonometric10LBFGSAnalyticVerifyStall, true
 				continue
 			case found.end == trigonometric10LBFGSAnalyticSearchTiny:
 				end = Trigonometric10LBFGSAnalyticStalled
@@ -516,51 +504,30 @@ func trigonometric10LBFGSAnalyticCurvatureSafe(s, y *[10]float64) bool {
 	return sy > 0 && (sy/trigonometric10LBFGSAnalyticDot(s, s))*(sy/trigonometric10LBFGSAnalyticDot(y, y)) > trigonometric10LBFGSAnalyticUnitRoundoff
 }
 
-// trigonometric10LBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func trigonometric10LBFGSAnalyticGradientError(x *[10]float64, fx float64, g, e *[10]float64, diffs *trigonometric10LBFGSAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	trigonometric10LBFGSAnalyticVerifyNothing = iota
+	trigonometric10LBFGSAnalyticVerifyPass    // a difference gradient passed the test
+	trigonometric10LBFGSAnalyticVerifyStall   // no step makes progress
+)
 
-// trigonometric10LBFGSAnalyticGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func trigonometric10LBFGSAnalyticGradientMeasure(g, e, x *[10]float64, fx float64) (measure, floor float64) {
-	scale := trigonometric10LBFGSAnalyticLarger(trigonometric10LBFGSAnalyticAbs(fx), 1)
-	for i := range g {
-		w := trigonometric10LBFGSAnalyticLarger(trigonometric10LBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = trigonometric10LBFGSAnalyticLarger(measure, (trigonometric10LBFGSAnalyticAbs(g[i])+e[i])*w)
-		floor = trigonometric10LBFGSAnalyticLarger(floor, e[i]*w)
+// trigonometric10LBFGSAnalyticSettle prepares a verdict at x: with differences it confirms the
+// gradient (trigonometric10LBFGSAnalyticConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (trigonometric10LBFGSAnalyticRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func trigonometric10LBFGSAnalyticSettle(x *[10]float64, fx float64, g, e *[10]float64, diffs *trigonometric10LBFGSAnalyticDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if trigonometric10LBFGSAnalyticDerivativeCost > 0 {
+		spent, ok := trigonometric10LBFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// trigonometric10LBFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func trigonometric10LBFGSAnalyticLarger(a, b float64) float64 {
-	if a > b || a != a {
-		return a
+	if stall {
+		trigonometric10LBFGSAnalyticRoundingFloor(x, g, e, diffs)
 	}
-	return b
-}
-
-// trigonometric10LBFGSAnalyticAbs returns |v|.
-func trigonometric10LBFGSAnalyticAbs(v float64) float64 {
-	if v < 0 {
-		return -v
-	}
-	return v
+	return calls, true
 }
 
 // trigonometric10LBFGSAnalyticConfirmGradient recomputes a difference gradient at x before the run is
@@ -593,33 +560,20 @@ func trigonometric10LBFGSAnalyticConfirmGradient(x *[10]float64, fx float64, g, 
 	return calls + 2*trigonometric10LBFGSAnalyticDerivativeCost, true
 }
 
-// trigonometric10LBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func trigonometric10LBFGSAnalyticStepWithin(s, x *[10]float64, tol float64) bool {
-	for i := range s {
-		if !(trigonometric10LBFGSAnalyticAbs(s[i]) <= tol*(trigonometric10LBFGSAnalyticAbs(x[i])+1)) {
-			return false
-		}
+// trigonometric10LBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func trigonometric10LBFGSAnalyticGradientError(x *[10]float64, fx float64, g, e *[10]float64, diffs *trigonometric10LBFGSAnalyticDifferences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// trigonometric10LBFGSAnalyticSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (trigonometric10LBFGSAnalyticConfirmGradient), then it adds to each error
-// bound the rounding floor of x (trigonometric10LBFGSAnalyticRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func trigonometric10LBFGSAnalyticSettle(x *[10]float64, fx float64, g, e *[10]float64, diffs *trigonometric10LBFGSAnalyticDifferences, budget int) (int, bool) {
-	calls := 0
-	if trigonometric10LBFGSAnalyticDerivativeCost > 0 {
-		spent, ok := trigonometric10LBFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// trigonometric10LBFGSAnalyticAbs returns |v|.
+func trigonometric10LBFGSAnalyticAbs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	trigonometric10LBFGSAnalyticRoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // trigonometric10LBFGSAnalyticRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -662,6 +616,49 @@ func trigonometric10LBFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
 // trigonometric10LBFGSAnalyticSquareRoot returns √v.
 func trigonometric10LBFGSAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// trigonometric10LBFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func trigonometric10LBFGSAnalyticLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// trigonometric10LBFGSAnalyticGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func trigonometric10LBFGSAnalyticGradientMeasure(g, e, x *[10]float64, fx float64) (measure, floor float64) {
+	scale := trigonometric10LBFGSAnalyticLarger(trigonometric10LBFGSAnalyticAbs(fx), 1)
+	for i := range g {
+		w := trigonometric10LBFGSAnalyticLarger(trigonometric10LBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = trigonometric10LBFGSAnalyticLarger(measure, (trigonometric10LBFGSAnalyticAbs(g[i])+e[i])*w)
+		floor = trigonometric10LBFGSAnalyticLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// trigonometric10LBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func trigonometric10LBFGSAnalyticStepWithin(s, x *[10]float64, tol float64) bool {
+	for i := range s {
+		if !(trigonometric10LBFGSAnalyticAbs(s[i]) <= tol*(trigonometric10LBFGSAnalyticAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // trigonometric10LBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the

@@ -191,11 +191,25 @@ func trigonometric10LBFGSCentralMinimize(x0 [10]float64, lim Trigonometric10LBFG
 	t, slope := float64(trigonometric10LBFGSCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                             // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                                   // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                      // whether g and e at x come from trigonometric10LBFGSCentralConfirmGradient
+	confirmed := false                                                      // whether g and e at x come from trigonometric10LBFGSCentralConfirmGradient or settle
 	stalled := false                                                        // whether the run can make no more progress at x
 	retried := -1                                                           // the iteration whose stall was retried with recalibrated differences
+	verify := trigonometric10LBFGSCentralVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != trigonometric10LBFGSCentralVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see trigonometric10LBFGSCentralConfirmGradient and settle).
+			calls, ok := trigonometric10LBFGSCentralSettle(&x, fx, &g, &e, &diffs, verify == trigonometric10LBFGSCentralVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(Trigonometric10LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !trigonometric10LBFGSCentralFiniteVec(&g) {
+				return best.ending(Trigonometric10LBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = trigonometric10LBFGSCentralVerifyNothing, true
+		case !confirmed:
 			trigonometric10LBFGSCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := trigonometric10LBFGSCentralGradientMeasure(&g, &e, &x, fx)
@@ -213,17 +227,7 @@ func trigonometric10LBFGSCentralMinimize(x0 [10]float64, lim Trigonometric10LBFG
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := trigonometric10LBFGSCentralConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(Trigonometric10LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !trigonometric10LBFGSCentralFiniteVec(&g) {
-				return best.ending(Trigonometric10LBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = trigonometric10LBFGSCentralVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -241,15 +245,7 @@ func trigonometric10LBFGSCentralMinimize(x0 [10]float64, lim Trigonometric10LBFG
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if trigonometric10LBFGSCentralStepWithin(&s, &x, lim.Step) {
-				calls, ok := trigonometric10LBFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(Trigonometric10LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !trigonometric10LBFGSCentralFiniteVec(&g) {
-					return best.ending(Trigonometric10LBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = trigonometric10LBFGSCentralVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -290,15 +286,7 @@ func trigonometric10LBFGSCentralMinimize(x0 [10]float64, lim Trigonometric10LBFG
 			case found.rising:
 				end = Trigonometric10LBFGSCentralNoDecrease
 			case found.end == trigonometric10LBFGSCentralSearchTiny && canSettle:
-				calls, ok := trigonometric10LBFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(Trigonometric10LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !trigonometric10LBFGSCentralFiniteVec(&g) {
-					return best.ending(Trigonometric10LBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = trigonometric10LBFGSCentralVerifyStall, true
 				continue
 			case found.end == trigonometric10LBFGSCentralSearchTiny:
 				end = Trigonometric10LBFGSCentralStalled
@@ -659,37 +647,30 @@ func trigonometric10LBFGSCentralCurvatureSafe(s, y *[10]float64) bool {
 	return sy > 0 && (sy/trigonometric10LBFGSCentralDot(s, s))*(sy/trigonometric10LBFGSCentralDot(y, y)) > trigonometric10LBFGSCentralUnitRoundoff
 }
 
-// trigonometric10LBFGSCentralGradientError bounds each central difference's error by twice its
-// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
-// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
-// in forwardError).
-func trigonometric10LBFGSCentralGradientError(x *[10]float64, fx float64, g, e *[10]float64, diffs *trigonometric10LBFGSCentralDifferences) {
-	noise := trigonometric10LBFGSCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h := diffs.ratio[i] * trigonometric10LBFGSCentralLarger(1, trigonometric10LBFGSCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	trigonometric10LBFGSCentralVerifyNothing = iota
+	trigonometric10LBFGSCentralVerifyPass    // a difference gradient passed the test
+	trigonometric10LBFGSCentralVerifyStall   // no step makes progress
+)
 
-// trigonometric10LBFGSCentralGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func trigonometric10LBFGSCentralGradientMeasure(g, e, x *[10]float64, fx float64) (measure, floor float64) {
-	scale := trigonometric10LBFGSCentralLarger(trigonometric10LBFGSCentralAbs(fx), 1)
-	for i := range g {
-		w := trigonometric10LBFGSCentralLarger(trigonometric10LBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = trigonometric10LBFGSCentralLarger(measure, (trigonometric10LBFGSCentralAbs(g[i])+e[i])*w)
-		floor = trigonometric10LBFGSCentralLarger(floor, e[i]*w)
+// trigonometric10LBFGSCentralSettle prepares a verdict at x: with differences it confirms the
+// gradient (trigonometric10LBFGSCentralConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (trigonometric10LBFGSCentralRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func trigonometric10LBFGSCentralSettle(x *[10]float64, fx float64, g, e *[10]float64, diffs *trigonometric10LBFGSCentralDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if trigonometric10LBFGSCentralDerivativeCost > 0 {
+		spent, ok := trigonometric10LBFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
+	if stall {
+		trigonometric10LBFGSCentralRoundingFloor(x, g, e, diffs)
+	}
+	return calls, true
 }
 
 // trigonometric10LBFGSCentralConfirmGradient recomputes a difference gradient at x before the run is
@@ -722,33 +703,16 @@ func trigonometric10LBFGSCentralConfirmGradient(x *[10]float64, fx float64, g, e
 	return calls + 2*trigonometric10LBFGSCentralDerivativeCost, true
 }
 
-// trigonometric10LBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func trigonometric10LBFGSCentralStepWithin(s, x *[10]float64, tol float64) bool {
-	for i := range s {
-		if !(trigonometric10LBFGSCentralAbs(s[i]) <= tol*(trigonometric10LBFGSCentralAbs(x[i])+1)) {
-			return false
-		}
+// trigonometric10LBFGSCentralGradientError bounds each central difference's error by twice its
+// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
+// in forwardError).
+func trigonometric10LBFGSCentralGradientError(x *[10]float64, fx float64, g, e *[10]float64, diffs *trigonometric10LBFGSCentralDifferences) {
+	noise := trigonometric10LBFGSCentralNoiseLevel(x, fx, g)
+	for i := range e {
+		h := diffs.ratio[i] * trigonometric10LBFGSCentralLarger(1, trigonometric10LBFGSCentralAbs(x[i]))
+		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
 	}
-	return true
-}
-
-// trigonometric10LBFGSCentralSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (trigonometric10LBFGSCentralConfirmGradient), then it adds to each error
-// bound the rounding floor of x (trigonometric10LBFGSCentralRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func trigonometric10LBFGSCentralSettle(x *[10]float64, fx float64, g, e *[10]float64, diffs *trigonometric10LBFGSCentralDifferences, budget int) (int, bool) {
-	calls := 0
-	if trigonometric10LBFGSCentralDerivativeCost > 0 {
-		spent, ok := trigonometric10LBFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
-	}
-	trigonometric10LBFGSCentralRoundingFloor(x, g, e, diffs)
-	return calls, true
 }
 
 // trigonometric10LBFGSCentralRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -769,6 +733,39 @@ func trigonometric10LBFGSCentralRoundingFloor(x, g, e *[10]float64, diffs *trigo
 // calibration, which trigonometric10LBFGSCentralConfirmGradient has just made at x.
 func trigonometric10LBFGSCentralDiagonalCurvature(x, g *[10]float64, diffs *trigonometric10LBFGSCentralDifferences, h *[10]float64) {
 	*h = diffs.second
+}
+
+// trigonometric10LBFGSCentralGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func trigonometric10LBFGSCentralGradientMeasure(g, e, x *[10]float64, fx float64) (measure, floor float64) {
+	scale := trigonometric10LBFGSCentralLarger(trigonometric10LBFGSCentralAbs(fx), 1)
+	for i := range g {
+		w := trigonometric10LBFGSCentralLarger(trigonometric10LBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = trigonometric10LBFGSCentralLarger(measure, (trigonometric10LBFGSCentralAbs(g[i])+e[i])*w)
+		floor = trigonometric10LBFGSCentralLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// trigonometric10LBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func trigonometric10LBFGSCentralStepWithin(s, x *[10]float64, tol float64) bool {
+	for i := range s {
+		if !(trigonometric10LBFGSCentralAbs(s[i]) <= tol*(trigonometric10LBFGSCentralAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // trigonometric10LBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the

@@ -190,11 +190,25 @@ func variablyDimensioned10BFGSAnalyticMinimize(x0 [10]float64, lim VariablyDimen
 	t, slope := float64(variablyDimensioned10BFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                                   // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                                         // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                            // whether g and e at x come from variablyDimensioned10BFGSAnalyticConfirmGradient
+	confirmed := false                                                            // whether g and e at x come from variablyDimensioned10BFGSAnalyticConfirmGradient or settle
 	stalled := false                                                              // whether the run can make no more progress at x
 	retried := -1                                                                 // the iteration whose stall was retried with recalibrated differences
+	verify := variablyDimensioned10BFGSAnalyticVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != variablyDimensioned10BFGSAnalyticVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see variablyDimensioned10BFGSAnalyticConfirmGradient and settle).
+			calls, ok := variablyDimensioned10BFGSAnalyticSettle(&x, fx, &g, &e, &diffs, verify == variablyDimensioned10BFGSAnalyticVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(VariablyDimensioned10BFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !variablyDimensioned10BFGSAnalyticFiniteVec(&g) {
+				return best.ending(VariablyDimensioned10BFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = variablyDimensioned10BFGSAnalyticVerifyNothing, true
+		case !confirmed:
 			variablyDimensioned10BFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := variablyDimensioned10BFGSAnalyticGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func variablyDimensioned10BFGSAnalyticMinimize(x0 [10]float64, lim VariablyDimen
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := variablyDimensioned10BFGSAnalyticConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(VariablyDimensioned10BFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !variablyDimensioned10BFGSAnalyticFiniteVec(&g) {
-				return best.ending(VariablyDimensioned10BFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = variablyDimensioned10BFGSAnalyticVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func variablyDimensioned10BFGSAnalyticMinimize(x0 [10]float64, lim VariablyDimen
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if variablyDimensioned10BFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				calls, ok := variablyDimensioned10BFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(VariablyDimensioned10BFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !variablyDimensioned10BFGSAnalyticFiniteVec(&g) {
-					return best.ending(VariablyDimensioned10BFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = variablyDimensioned10BFGSAnalyticVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func variablyDimensioned10BFGSAnalyticMinimize(x0 [10]float64, lim VariablyDimen
 			case found.rising:
 				end = VariablyDimensioned10BFGSAnalyticNoDecrease
 			case found.end == variablyDimensioned10BFGSAnalyticSearchTiny && canSettle:
-				calls, ok := variablyDimensioned10BFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(VariablyDimensioned10BFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !variablyDimensioned10BFGSAnalyticFiniteVec(&g) {
-					return best.ending(VariablyDimensioned10BFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = variablyDimensioned10BFGSAnalyticVerifyStall, true
 				continue
 			case found.end == variablyDimensioned10BFGSAnalyticSearchTiny:
 				end = VariablyDimensioned10BFGSAnalyticStalled
@@ -490,51 +478,30 @@ func variablyDimensioned10BFGSAnalyticCurvatureSafe(s, y *[10]float64) bool {
 	return sy > 0 && (sy/variablyDimensioned10BFGSAnalyticDot(s, s))*(sy/variablyDimensioned10BFGSAnalyticDot(y, y)) > variablyDimensioned10BFGSAnalyticUnitRoundoff
 }
 
-// variablyDimensioned10BFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func variablyDimensioned10BFGSAnalyticGradientError(x *[10]float64, fx float64, g, e *[10]float64, diffs *variablyDimensioned10BFGSAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	variablyDimensioned10BFGSAnalyticVerifyNothing = iota
+	variablyDimensioned10BFGSAnalyticVerifyPass    // a difference gradient passed the test
+	variablyDimensioned10BFGSAnalyticVerifyStall   // no step makes progress
+)
 
-// variablyDimensioned10BFGSAnalyticGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func variablyDimensioned10BFGSAnalyticGradientMeasure(g, e, x *[10]float64, fx float64) (measure, floor float64) {
-	scale := variablyDimensioned10BFGSAnalyticLarger(variablyDimensioned10BFGSAnalyticAbs(fx), 1)
-	for i := range g {
-		w := variablyDimensioned10BFGSAnalyticLarger(variablyDimensioned10BFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = variablyDimensioned10BFGSAnalyticLarger(measure, (variablyDimensioned10BFGSAnalyticAbs(g[i])+e[i])*w)
-		floor = variablyDimensioned10BFGSAnalyticLarger(floor, e[i]*w)
+// variablyDimensioned10BFGSAnalyticSettle prepares a verdict at x: with differences it confirms the
+// gradient (variablyDimensioned10BFGSAnalyticConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (variablyDimensioned10BFGSAnalyticRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func variablyDimensioned10BFGSAnalyticSettle(x *[10]float64, fx float64, g, e *[10]float64, diffs *variablyDimensioned10BFGSAnalyticDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if variablyDimensioned10BFGSAnalyticDerivativeCost > 0 {
+		spent, ok := variablyDimensioned10BFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// variablyDimensioned10BFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func variablyDimensioned10BFGSAnalyticLarger(a, b float64) float64 {
-	if a > b || a != a {
-		return a
+	if stall {
+		variablyDimensioned10BFGSAnalyticRoundingFloor(x, g, e, diffs)
 	}
-	return b
-}
-
-// variablyDimensioned10BFGSAnalyticAbs returns |v|.
-func variablyDimensioned10BFGSAnalyticAbs(v float64) float64 {
-	if v < 0 {
-		return -v
-	}
-	return v
+	return calls, true
 }
 
 // variablyDimensioned10BFGSAnalyticConfirmGradient recomputes a difference gradient at x before the run is
@@ -567,33 +534,20 @@ func variablyDimensioned10BFGSAnalyticConfirmGradient(x *[10]float64, fx float64
 	return calls + 2*variablyDimensioned10BFGSAnalyticDerivativeCost, true
 }
 
-// variablyDimensioned10BFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func variablyDimensioned10BFGSAnalyticStepWithin(s, x *[10]float64, tol float64) bool {
-	for i := range s {
-		if !(variablyDimensioned10BFGSAnalyticAbs(s[i]) <= tol*(variablyDimensioned10BFGSAnalyticAbs(x[i])+1)) {
-			return false
-		}
+// variablyDimensioned10BFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func variablyDimensioned10BFGSAnalyticGradientError(x *[10]float64, fx float64, g, e *[10]float64, diffs *variablyDimensioned10BFGSAnalyticDifferences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// variablyDimensioned10BFGSAnalyticSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (variablyDimensioned10BFGSAnalyticConfirmGradient), then it adds to each error
-// bound the rounding floor of x (variablyDimensioned10BFGSAnalyticRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func variablyDimensioned10BFGSAnalyticSettle(x *[10]float64, fx float64, g, e *[10]float64, diffs *variablyDimensioned10BFGSAnalyticDifferences, budget int) (int, bool) {
-	calls := 0
-	if variablyDimensioned10BFGSAnalyticDerivativeCost > 0 {
-		spent, ok := variablyDimensioned10BFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// variablyDimensioned10BFGSAnalyticAbs returns |v|.
+func variablyDimensioned10BFGSAnalyticAbs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	variablyDimensioned10BFGSAnalyticRoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // variablyDimensioned10BFGSAnalyticRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -636,6 +590,49 @@ func variablyDimensioned10BFGSAnalyticProbeStep(xi, h float64) (float64, float64
 // variablyDimensioned10BFGSAnalyticSquareRoot returns √v.
 func variablyDimensioned10BFGSAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// variablyDimensioned10BFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func variablyDimensioned10BFGSAnalyticLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// variablyDimensioned10BFGSAnalyticGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func variablyDimensioned10BFGSAnalyticGradientMeasure(g, e, x *[10]float64, fx float64) (measure, floor float64) {
+	scale := variablyDimensioned10BFGSAnalyticLarger(variablyDimensioned10BFGSAnalyticAbs(fx), 1)
+	for i := range g {
+		w := variablyDimensioned10BFGSAnalyticLarger(variablyDimensioned10BFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = variablyDimensioned10BFGSAnalyticLarger(measure, (variablyDimensioned10BFGSAnalyticAbs(g[i])+e[i])*w)
+		floor = variablyDimensioned10BFGSAnalyticLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// variablyDimensioned10BFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func variablyDimensioned10BFGSAnalyticStepWithin(s, x *[10]float64, tol float64) bool {
+	for i := range s {
+		if !(variablyDimensioned10BFGSAnalyticAbs(s[i]) <= tol*(variablyDimensioned10BFGSAnalyticAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // variablyDimensioned10BFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the

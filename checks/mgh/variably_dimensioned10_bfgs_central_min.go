@@ -190,11 +190,25 @@ func variablyDimensioned10BFGSCentralMinimize(x0 [10]float64, lim VariablyDimens
 	t, slope := float64(variablyDimensioned10BFGSCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                                  // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                                        // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                           // whether g and e at x come from variablyDimensioned10BFGSCentralConfirmGradient
+	confirmed := false                                                           // whether g and e at x come from variablyDimensioned10BFGSCentralConfirmGradient or settle
 	stalled := false                                                             // whether the run can make no more progress at x
 	retried := -1                                                                // the iteration whose stall was retried with recalibrated differences
+	verify := variablyDimensioned10BFGSCentralVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != variablyDimensioned10BFGSCentralVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see variablyDimensioned10BFGSCentralConfirmGradient and settle).
+			calls, ok := variablyDimensioned10BFGSCentralSettle(&x, fx, &g, &e, &diffs, verify == variablyDimensioned10BFGSCentralVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(VariablyDimensioned10BFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !variablyDimensioned10BFGSCentralFiniteVec(&g) {
+				return best.ending(VariablyDimensioned10BFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = variablyDimensioned10BFGSCentralVerifyNothing, true
+		case !confirmed:
 			variablyDimensioned10BFGSCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := variablyDimensioned10BFGSCentralGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func variablyDimensioned10BFGSCentralMinimize(x0 [10]float64, lim VariablyDimens
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := variablyDimensioned10BFGSCentralConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(VariablyDimensioned10BFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !variablyDimensioned10BFGSCentralFiniteVec(&g) {
-				return best.ending(VariablyDimensioned10BFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = variablyDimensioned10BFGSCentralVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func variablyDimensioned10BFGSCentralMinimize(x0 [10]float64, lim VariablyDimens
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if variablyDimensioned10BFGSCentralStepWithin(&s, &x, lim.Step) {
-				calls, ok := variablyDimensioned10BFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(VariablyDimensioned10BFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !variablyDimensioned10BFGSCentralFiniteVec(&g) {
-					return best.ending(VariablyDimensioned10BFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = variablyDimensioned10BFGSCentralVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func variablyDimensioned10BFGSCentralMinimize(x0 [10]float64, lim VariablyDimens
 			case found.rising:
 				end = VariablyDimensioned10BFGSCentralNoDecrease
 			case found.end == variablyDimensioned10BFGSCentralSearchTiny && canSettle:
-				calls, ok := variablyDimensioned10BFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(VariablyDimensioned10BFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !variablyDimensioned10BFGSCentralFiniteVec(&g) {
-					return best.ending(VariablyDimensioned10BFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = variablyDimensioned10BFGSCentralVerifyStall, true
 				continue
 			case found.end == variablyDimensioned10BFGSCentralSearchTiny:
 				end = VariablyDimensioned10BFGSCentralStalled
@@ -633,37 +621,30 @@ func variablyDimensioned10BFGSCentralCurvatureSafe(s, y *[10]float64) bool {
 	return sy > 0 && (sy/variablyDimensioned10BFGSCentralDot(s, s))*(sy/variablyDimensioned10BFGSCentralDot(y, y)) > variablyDimensioned10BFGSCentralUnitRoundoff
 }
 
-// variablyDimensioned10BFGSCentralGradientError bounds each central difference's error by twice its
-// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
-// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
-// in forwardError).
-func variablyDimensioned10BFGSCentralGradientError(x *[10]float64, fx float64, g, e *[10]float64, diffs *variablyDimensioned10BFGSCentralDifferences) {
-	noise := variablyDimensioned10BFGSCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h := diffs.ratio[i] * variablyDimensioned10BFGSCentralLarger(1, variablyDimensioned10BFGSCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	variablyDimensioned10BFGSCentralVerifyNothing = iota
+	variablyDimensioned10BFGSCentralVerifyPass    // a difference gradient passed the test
+	variablyDimensioned10BFGSCentralVerifyStall   // no step makes progress
+)
 
-// variablyDimensioned10BFGSCentralGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func variablyDimensioned10BFGSCentralGradientMeasure(g, e, x *[10]float64, fx float64) (measure, floor float64) {
-	scale := variablyDimensioned10BFGSCentralLarger(variablyDimensioned10BFGSCentralAbs(fx), 1)
-	for i := range g {
-		w := variablyDimensioned10BFGSCentralLarger(variablyDimensioned10BFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = variablyDimensioned10BFGSCentralLarger(measure, (variablyDimensioned10BFGSCentralAbs(g[i])+e[i])*w)
-		floor = variablyDimensioned10BFGSCentralLarger(floor, e[i]*w)
+// variablyDimensioned10BFGSCentralSettle prepares a verdict at x: with differences it confirms the
+// gradient (variablyDimensioned10BFGSCentralConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (variablyDimensioned10BFGSCentralRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func variablyDimensioned10BFGSCentralSettle(x *[10]float64, fx float64, g, e *[10]float64, diffs *variablyDimensioned10BFGSCentralDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if variablyDimensioned10BFGSCentralDerivativeCost > 0 {
+		spent, ok := variablyDimensioned10BFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
+	if stall {
+		variablyDimensioned10BFGSCentralRoundingFloor(x, g, e, diffs)
+	}
+	return calls, true
 }
 
 // variablyDimensioned10BFGSCentralConfirmGradient recomputes a difference gradient at x before the run is
@@ -696,33 +677,16 @@ func variablyDimensioned10BFGSCentralConfirmGradient(x *[10]float64, fx float64,
 	return calls + 2*variablyDimensioned10BFGSCentralDerivativeCost, true
 }
 
-// variablyDimensioned10BFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func variablyDimensioned10BFGSCentralStepWithin(s, x *[10]float64, tol float64) bool {
-	for i := range s {
-		if !(variablyDimensioned10BFGSCentralAbs(s[i]) <= tol*(variablyDimensioned10BFGSCentralAbs(x[i])+1)) {
-			return false
-		}
+// variablyDimensioned10BFGSCentralGradientError bounds each central difference's error by twice its
+// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
+// in forwardError).
+func variablyDimensioned10BFGSCentralGradientError(x *[10]float64, fx float64, g, e *[10]float64, diffs *variablyDimensioned10BFGSCentralDifferences) {
+	noise := variablyDimensioned10BFGSCentralNoiseLevel(x, fx, g)
+	for i := range e {
+		h := diffs.ratio[i] * variablyDimensioned10BFGSCentralLarger(1, variablyDimensioned10BFGSCentralAbs(x[i]))
+		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
 	}
-	return true
-}
-
-// variablyDimensioned10BFGSCentralSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (variablyDimensioned10BFGSCentralConfirmGradient), then it adds to each error
-// bound the rounding floor of x (variablyDimensioned10BFGSCentralRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func variablyDimensioned10BFGSCentralSettle(x *[10]float64, fx float64, g, e *[10]float64, diffs *variablyDimensioned10BFGSCentralDifferences, budget int) (int, bool) {
-	calls := 0
-	if variablyDimensioned10BFGSCentralDerivativeCost > 0 {
-		spent, ok := variablyDimensioned10BFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
-	}
-	variablyDimensioned10BFGSCentralRoundingFloor(x, g, e, diffs)
-	return calls, true
 }
 
 // variablyDimensioned10BFGSCentralRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -743,6 +707,39 @@ func variablyDimensioned10BFGSCentralRoundingFloor(x, g, e *[10]float64, diffs *
 // calibration, which variablyDimensioned10BFGSCentralConfirmGradient has just made at x.
 func variablyDimensioned10BFGSCentralDiagonalCurvature(x, g *[10]float64, diffs *variablyDimensioned10BFGSCentralDifferences, h *[10]float64) {
 	*h = diffs.second
+}
+
+// variablyDimensioned10BFGSCentralGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func variablyDimensioned10BFGSCentralGradientMeasure(g, e, x *[10]float64, fx float64) (measure, floor float64) {
+	scale := variablyDimensioned10BFGSCentralLarger(variablyDimensioned10BFGSCentralAbs(fx), 1)
+	for i := range g {
+		w := variablyDimensioned10BFGSCentralLarger(variablyDimensioned10BFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = variablyDimensioned10BFGSCentralLarger(measure, (variablyDimensioned10BFGSCentralAbs(g[i])+e[i])*w)
+		floor = variablyDimensioned10BFGSCentralLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// variablyDimensioned10BFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func variablyDimensioned10BFGSCentralStepWithin(s, x *[10]float64, tol float64) bool {
+	for i := range s {
+		if !(variablyDimensioned10BFGSCentralAbs(s[i]) <= tol*(variablyDimensioned10BFGSCentralAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // variablyDimensioned10BFGSCentralTinyStep returns the longest t for which the step t·d from x passes the

@@ -190,11 +190,25 @@ func variablyDimensioned10CGAnalyticMinimize(x0 [10]float64, lim VariablyDimensi
 	t, slope := float64(variablyDimensioned10CGAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                                 // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                                       // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                          // whether g and e at x come from variablyDimensioned10CGAnalyticConfirmGradient
+	confirmed := false                                                          // whether g and e at x come from variablyDimensioned10CGAnalyticConfirmGradient or settle
 	stalled := false                                                            // whether the run can make no more progress at x
 	retried := -1                                                               // the iteration whose stall was retried with recalibrated differences
+	verify := variablyDimensioned10CGAnalyticVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != variablyDimensioned10CGAnalyticVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see variablyDimensioned10CGAnalyticConfirmGradient and settle).
+			calls, ok := variablyDimensioned10CGAnalyticSettle(&x, fx, &g, &e, &diffs, verify == variablyDimensioned10CGAnalyticVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(VariablyDimensioned10CGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !variablyDimensioned10CGAnalyticFiniteVec(&g) {
+				return best.ending(VariablyDimensioned10CGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = variablyDimensioned10CGAnalyticVerifyNothing, true
+		case !confirmed:
 			variablyDimensioned10CGAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := variablyDimensioned10CGAnalyticGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func variablyDimensioned10CGAnalyticMinimize(x0 [10]float64, lim VariablyDimensi
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := variablyDimensioned10CGAnalyticConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(VariablyDimensioned10CGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !variablyDimensioned10CGAnalyticFiniteVec(&g) {
-				return best.ending(VariablyDimensioned10CGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = variablyDimensioned10CGAnalyticVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func variablyDimensioned10CGAnalyticMinimize(x0 [10]float64, lim VariablyDimensi
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if variablyDimensioned10CGAnalyticStepWithin(&s, &x, lim.Step) {
-				calls, ok := variablyDimensioned10CGAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(VariablyDimensioned10CGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !variablyDimensioned10CGAnalyticFiniteVec(&g) {
-					return best.ending(VariablyDimensioned10CGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = variablyDimensioned10CGAnalyticVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func variablyDimensioned10CGAnalyticMinimize(x0 [10]float64, lim VariablyDimensi
 			case found.rising:
 				end = VariablyDimensioned10CGAnalyticNoDecrease
 			case found.end == variablyDimensioned10CGAnalyticSearchTiny && canSettle:
-				calls, ok := variablyDimensioned10CGAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(VariablyDimensioned10CGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !variablyDimensioned10CGAnalyticFiniteVec(&g) {
-					return best.ending(VariablyDimensioned10CGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = variablyDimensioned10CGAnalyticVerifyStall, true
 				continue
 			case found.end == variablyDimensioned10CGAnalyticSearchTiny:
 				end = VariablyDimensioned10CGAnalyticStalled
@@ -482,41 +470,30 @@ func variablyDimensioned10CGAnalyticScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
-// variablyDimensioned10CGAnalyticGradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func variablyDimensioned10CGAnalyticGradientError(x *[10]float64, fx float64, g, e *[10]float64, diffs *variablyDimensioned10CGAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	variablyDimensioned10CGAnalyticVerifyNothing = iota
+	variablyDimensioned10CGAnalyticVerifyPass    // a difference gradient passed the test
+	variablyDimensioned10CGAnalyticVerifyStall   // no step makes progress
+)
 
-// variablyDimensioned10CGAnalyticGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func variablyDimensioned10CGAnalyticGradientMeasure(g, e, x *[10]float64, fx float64) (measure, floor float64) {
-	scale := variablyDimensioned10CGAnalyticLarger(variablyDimensioned10CGAnalyticAbs(fx), 1)
-	for i := range g {
-		w := variablyDimensioned10CGAnalyticLarger(variablyDimensioned10CGAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = variablyDimensioned10CGAnalyticLarger(measure, (variablyDimensioned10CGAnalyticAbs(g[i])+e[i])*w)
-		floor = variablyDimensioned10CGAnalyticLarger(floor, e[i]*w)
+// variablyDimensioned10CGAnalyticSettle prepares a verdict at x: with differences it confirms the
+// gradient (variablyDimensioned10CGAnalyticConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (variablyDimensioned10CGAnalyticRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func variablyDimensioned10CGAnalyticSettle(x *[10]float64, fx float64, g, e *[10]float64, diffs *variablyDimensioned10CGAnalyticDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if variablyDimensioned10CGAnalyticDerivativeCost > 0 {
+		spent, ok := variablyDimensioned10CGAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// variablyDimensioned10CGAnalyticAbs returns |v|.
-func variablyDimensioned10CGAnalyticAbs(v float64) float64 {
-	if v < 0 {
-		return -v
+	if stall {
+		variablyDimensioned10CGAnalyticRoundingFloor(x, g, e, diffs)
 	}
-	return v
+	return calls, true
 }
 
 // variablyDimensioned10CGAnalyticConfirmGradient recomputes a difference gradient at x before the run is
@@ -549,33 +526,20 @@ func variablyDimensioned10CGAnalyticConfirmGradient(x *[10]float64, fx float64, 
 	return calls + 2*variablyDimensioned10CGAnalyticDerivativeCost, true
 }
 
-// variablyDimensioned10CGAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func variablyDimensioned10CGAnalyticStepWithin(s, x *[10]float64, tol float64) bool {
-	for i := range s {
-		if !(variablyDimensioned10CGAnalyticAbs(s[i]) <= tol*(variablyDimensioned10CGAnalyticAbs(x[i])+1)) {
-			return false
-		}
+// variablyDimensioned10CGAnalyticGradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func variablyDimensioned10CGAnalyticGradientError(x *[10]float64, fx float64, g, e *[10]float64, diffs *variablyDimensioned10CGAnalyticDifferences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// variablyDimensioned10CGAnalyticSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (variablyDimensioned10CGAnalyticConfirmGradient), then it adds to each error
-// bound the rounding floor of x (variablyDimensioned10CGAnalyticRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func variablyDimensioned10CGAnalyticSettle(x *[10]float64, fx float64, g, e *[10]float64, diffs *variablyDimensioned10CGAnalyticDifferences, budget int) (int, bool) {
-	calls := 0
-	if variablyDimensioned10CGAnalyticDerivativeCost > 0 {
-		spent, ok := variablyDimensioned10CGAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// variablyDimensioned10CGAnalyticAbs returns |v|.
+func variablyDimensioned10CGAnalyticAbs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	variablyDimensioned10CGAnalyticRoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // variablyDimensioned10CGAnalyticRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -618,6 +582,39 @@ func variablyDimensioned10CGAnalyticProbeStep(xi, h float64) (float64, float64) 
 // variablyDimensioned10CGAnalyticSquareRoot returns √v.
 func variablyDimensioned10CGAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// variablyDimensioned10CGAnalyticGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func variablyDimensioned10CGAnalyticGradientMeasure(g, e, x *[10]float64, fx float64) (measure, floor float64) {
+	scale := variablyDimensioned10CGAnalyticLarger(variablyDimensioned10CGAnalyticAbs(fx), 1)
+	for i := range g {
+		w := variablyDimensioned10CGAnalyticLarger(variablyDimensioned10CGAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = variablyDimensioned10CGAnalyticLarger(measure, (variablyDimensioned10CGAnalyticAbs(g[i])+e[i])*w)
+		floor = variablyDimensioned10CGAnalyticLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// variablyDimensioned10CGAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func variablyDimensioned10CGAnalyticStepWithin(s, x *[10]float64, tol float64) bool {
+	for i := range s {
+		if !(variablyDimensioned10CGAnalyticAbs(s[i]) <= tol*(variablyDimensioned10CGAnalyticAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // variablyDimensioned10CGAnalyticTinyStep returns the longest t for which the step t·d from x passes the

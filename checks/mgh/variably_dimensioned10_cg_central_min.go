@@ -190,11 +190,25 @@ func variablyDimensioned10CGCentralMinimize(x0 [10]float64, lim VariablyDimensio
 	t, slope := float64(variablyDimensioned10CGCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                                // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                                      // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                         // whether g and e at x come from variablyDimensioned10CGCentralConfirmGradient
+	confirmed := false                                                         // whether g and e at x come from variablyDimensioned10CGCentralConfirmGradient or settle
 	stalled := false                                                           // whether the run can make no more progress at x
 	retried := -1                                                              // the iteration whose stall was retried with recalibrated differences
+	verify := variablyDimensioned10CGCentralVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != variablyDimensioned10CGCentralVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see variablyDimensioned10CGCentralConfirmGradient and settle).
+			calls, ok := variablyDimensioned10CGCentralSettle(&x, fx, &g, &e, &diffs, verify == variablyDimensioned10CGCentralVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(VariablyDimensioned10CGCentralOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !variablyDimensioned10CGCentralFiniteVec(&g) {
+				return best.ending(VariablyDimensioned10CGCentralNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = variablyDimensioned10CGCentralVerifyNothing, true
+		case !confirmed:
 			variablyDimensioned10CGCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := variablyDimensioned10CGCentralGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func variablyDimensioned10CGCentralMinimize(x0 [10]float64, lim VariablyDimensio
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := variablyDimensioned10CGCentralConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(VariablyDimensioned10CGCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !variablyDimensioned10CGCentralFiniteVec(&g) {
-				return best.ending(VariablyDimensioned10CGCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = variablyDimensioned10CGCentralVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func variablyDimensioned10CGCentralMinimize(x0 [10]float64, lim VariablyDimensio
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if variablyDimensioned10CGCentralStepWithin(&s, &x, lim.Step) {
-				calls, ok := variablyDimensioned10CGCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(VariablyDimensioned10CGCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !variablyDimensioned10CGCentralFiniteVec(&g) {
-					return best.ending(VariablyDimensioned10CGCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = variablyDimensioned10CGCentralVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func variablyDimensioned10CGCentralMinimize(x0 [10]float64, lim VariablyDimensio
 			case found.rising:
 				end = VariablyDimensioned10CGCentralNoDecrease
 			case found.end == variablyDimensioned10CGCentralSearchTiny && canSettle:
-				calls, ok := variablyDimensioned10CGCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(VariablyDimensioned10CGCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !variablyDimensioned10CGCentralFiniteVec(&g) {
-					return best.ending(VariablyDimensioned10CGCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = variablyDimensioned10CGCentralVerifyStall, true
 				continue
 			case found.end == variablyDimensioned10CGCentralSearchTiny:
 				end = VariablyDimensioned10CGCentralStalled
@@ -615,37 +603,30 @@ func variablyDimensioned10CGCentralScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
-// variablyDimensioned10CGCentralGradientError bounds each central difference's error by twice its
-// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
-// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
-// in forwardError).
-func variablyDimensioned10CGCentralGradientError(x *[10]float64, fx float64, g, e *[10]float64, diffs *variablyDimensioned10CGCentralDifferences) {
-	noise := variablyDimensioned10CGCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h := diffs.ratio[i] * variablyDimensioned10CGCentralLarger(1, variablyDimensioned10CGCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	variablyDimensioned10CGCentralVerifyNothing = iota
+	variablyDimensioned10CGCentralVerifyPass    // a difference gradient passed the test
+	variablyDimensioned10CGCentralVerifyStall   // no step makes progress
+)
 
-// variablyDimensioned10CGCentralGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func variablyDimensioned10CGCentralGradientMeasure(g, e, x *[10]float64, fx float64) (measure, floor float64) {
-	scale := variablyDimensioned10CGCentralLarger(variablyDimensioned10CGCentralAbs(fx), 1)
-	for i := range g {
-		w := variablyDimensioned10CGCentralLarger(variablyDimensioned10CGCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = variablyDimensioned10CGCentralLarger(measure, (variablyDimensioned10CGCentralAbs(g[i])+e[i])*w)
-		floor = variablyDimensioned10CGCentralLarger(floor, e[i]*w)
+// variablyDimensioned10CGCentralSettle prepares a verdict at x: with differences it confirms the
+// gradient (variablyDimensioned10CGCentralConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (variablyDimensioned10CGCentralRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func variablyDimensioned10CGCentralSettle(x *[10]float64, fx float64, g, e *[10]float64, diffs *variablyDimensioned10CGCentralDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if variablyDimensioned10CGCentralDerivativeCost > 0 {
+		spent, ok := variablyDimensioned10CGCentralConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
+	if stall {
+		variablyDimensioned10CGCentralRoundingFloor(x, g, e, diffs)
+	}
+	return calls, true
 }
 
 // variablyDimensioned10CGCentralConfirmGradient recomputes a difference gradient at x before the run is
@@ -678,33 +659,16 @@ func variablyDimensioned10CGCentralConfirmGradient(x *[10]float64, fx float64, g
 	return calls + 2*variablyDimensioned10CGCentralDerivativeCost, true
 }
 
-// variablyDimensioned10CGCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func variablyDimensioned10CGCentralStepWithin(s, x *[10]float64, tol float64) bool {
-	for i := range s {
-		if !(variablyDimensioned10CGCentralAbs(s[i]) <= tol*(variablyDimensioned10CGCentralAbs(x[i])+1)) {
-			return false
-		}
+// variablyDimensioned10CGCentralGradientError bounds each central difference's error by twice its
+// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
+// in forwardError).
+func variablyDimensioned10CGCentralGradientError(x *[10]float64, fx float64, g, e *[10]float64, diffs *variablyDimensioned10CGCentralDifferences) {
+	noise := variablyDimensioned10CGCentralNoiseLevel(x, fx, g)
+	for i := range e {
+		h := diffs.ratio[i] * variablyDimensioned10CGCentralLarger(1, variablyDimensioned10CGCentralAbs(x[i]))
+		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
 	}
-	return true
-}
-
-// variablyDimensioned10CGCentralSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (variablyDimensioned10CGCentralConfirmGradient), then it adds to each error
-// bound the rounding floor of x (variablyDimensioned10CGCentralRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func variablyDimensioned10CGCentralSettle(x *[10]float64, fx float64, g, e *[10]float64, diffs *variablyDimensioned10CGCentralDifferences, budget int) (int, bool) {
-	calls := 0
-	if variablyDimensioned10CGCentralDerivativeCost > 0 {
-		spent, ok := variablyDimensioned10CGCentralConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
-	}
-	variablyDimensioned10CGCentralRoundingFloor(x, g, e, diffs)
-	return calls, true
 }
 
 // variablyDimensioned10CGCentralRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -725,6 +689,39 @@ func variablyDimensioned10CGCentralRoundingFloor(x, g, e *[10]float64, diffs *va
 // calibration, which variablyDimensioned10CGCentralConfirmGradient has just made at x.
 func variablyDimensioned10CGCentralDiagonalCurvature(x, g *[10]float64, diffs *variablyDimensioned10CGCentralDifferences, h *[10]float64) {
 	*h = diffs.second
+}
+
+// variablyDimensioned10CGCentralGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func variablyDimensioned10CGCentralGradientMeasure(g, e, x *[10]float64, fx float64) (measure, floor float64) {
+	scale := variablyDimensioned10CGCentralLarger(variablyDimensioned10CGCentralAbs(fx), 1)
+	for i := range g {
+		w := variablyDimensioned10CGCentralLarger(variablyDimensioned10CGCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = variablyDimensioned10CGCentralLarger(measure, (variablyDimensioned10CGCentralAbs(g[i])+e[i])*w)
+		floor = variablyDimensioned10CGCentralLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// variablyDimensioned10CGCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func variablyDimensioned10CGCentralStepWithin(s, x *[10]float64, tol float64) bool {
+	for i := range s {
+		if !(variablyDimensioned10CGCentralAbs(s[i]) <= tol*(variablyDimensioned10CGCentralAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // variablyDimensioned10CGCentralTinyStep returns the longest t for which the step t·d from x passes the

@@ -191,11 +191,25 @@ func variablyDimensioned10LBFGSAnalyticMinimize(x0 [10]float64, lim VariablyDime
 	t, slope := float64(variablyDimensioned10LBFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                                    // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                                          // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                                             // whether g and e at x come from variablyDimensioned10LBFGSAnalyticConfirmGradient
+	confirmed := false                                                             // whether g and e at x come from variablyDimensioned10LBFGSAnalyticConfirmGradient or settle
 	stalled := false                                                               // whether the run can make no more progress at x
 	retried := -1                                                                  // the iteration whose stall was retried with recalibrated differences
+	verify := variablyDimensioned10LBFGSAnalyticVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != variablyDimensioned10LBFGSAnalyticVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see variablyDimensioned10LBFGSAnalyticConfirmGradient and settle).
+			calls, ok := variablyDimensioned10LBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, verify == variablyDimensioned10LBFGSAnalyticVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(VariablyDimensioned10LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !variablyDimensioned10LBFGSAnalyticFiniteVec(&g) {
+				return best.ending(VariablyDimensioned10LBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = variablyDimensioned10LBFGSAnalyticVerifyNothing, true
+		case !confirmed:
 			variablyDimensioned10LBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := variablyDimensioned10LBFGSAnalyticGradientMeasure(&g, &e, &x, fx)
@@ -213,17 +227,7 @@ func variablyDimensioned10LBFGSAnalyticMinimize(x0 [10]float64, lim VariablyDime
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := variablyDimensioned10LBFGSAnalyticConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(VariablyDimensioned10LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !variablyDimensioned10LBFGSAnalyticFiniteVec(&g) {
-				return best.ending(VariablyDimensioned10LBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = variablyDimensioned10LBFGSAnalyticVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -241,15 +245,7 @@ func variablyDimensioned10LBFGSAnalyticMinimize(x0 [10]float64, lim VariablyDime
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if variablyDimensioned10LBFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				calls, ok := variablyDimensioned10LBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(VariablyDimensioned10LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !variablyDimensioned10LBFGSAnalyticFiniteVec(&g) {
-					return best.ending(VariablyDimensioned10LBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = variablyDimensioned10LBFGSAnalyticVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -290,15 +286,7 @@ func variablyDimensioned10LBFGSAnalyticMinimize(x0 [10]float64, lim VariablyDime
 			case found.rising:
 				end = VariablyDimensioned10LBFGSAnalyticNoDecrease
 			case found.end == variablyDimensioned10LBFGSAnalyticSearchTiny && canSettle:
-				calls, ok := variablyDimensioned10LBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(VariablyDimensioned10LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !variablyDimensioned10LBFGSAnalyticFiniteVec(&g) {
-					return best.ending(VariablyDimensioned10LBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = variablyDimensioned10LBFGSAnalyticVerifyStall, true
 				continue
 			case found.end == variablyDimensioned10LBFGSAnalyticSearchTiny:
 				end = VariablyDimensioned10LBFGSAnalyticStalled
@@ -516,51 +504,30 @@ func variablyDimensioned10LBFGSAnalyticCurvatureSafe(s, y *[10]float64) bool {
 	return sy > 0 && (sy/variablyDimensioned10LBFGSAnalyticDot(s, s))*(sy/variablyDimensioned10LBFGSAnalyticDot(y, y)) > variablyDimensioned10LBFGSAnalyticUnitRoundoff
 }
 
-// variablyDimensioned10LBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func variablyDimensioned10LBFGSAnalyticGradientError(x *[10]float64, fx float64, g, e *[10]float64, diffs *variablyDimensioned10LBFGSAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	variablyDimensioned10LBFGSAnalyticVerifyNothing = iota
+	variablyDimensioned10LBFGSAnalyticVerifyPass    // a difference gradient passed the test
+	variablyDimensioned10LBFGSAnalyticVerifyStall   // no step makes progress
+)
 
-// variablyDimensioned10LBFGSAnalyticGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func variablyDimensioned10LBFGSAnalyticGradientMeasure(g, e, x *[10]float64, fx float64) (measure, floor float64) {
-	scale := variablyDimensioned10LBFGSAnalyticLarger(variablyDimensioned10LBFGSAnalyticAbs(fx), 1)
-	for i := range g {
-		w := variablyDimensioned10LBFGSAnalyticLarger(variablyDimensioned10LBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = variablyDimensioned10LBFGSAnalyticLarger(measure, (variablyDimensioned10LBFGSAnalyticAbs(g[i])+e[i])*w)
-		floor = variablyDimensioned10LBFGSAnalyticLarger(floor, e[i]*w)
+// variablyDimensioned10LBFGSAnalyticSettle prepares a verdict at x: with differences it confirms the
+// gradient (variablyDimensioned10LBFGSAnalyticConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (variablyDimensioned10LBFGSAnalyticRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func variablyDimensioned10LBFGSAnalyticSettle(x *[10]float64, fx float64, g, e *[10]float64, diffs *variablyDimensioned10LBFGSAnalyticDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if variablyDimensioned10LBFGSAnalyticDerivativeCost > 0 {
+		spent, ok := variablyDimensioned10LBFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// variablyDimensioned10LBFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func variablyDimensioned10LBFGSAnalyticLarger(a, b float64) float64 {
-	if a > b || a != a {
-		return a
+	if stall {
+		variablyDimensioned10LBFGSAnalyticRoundingFloor(x, g, e, diffs)
 	}
-	return b
-}
-
-// variablyDimensioned10LBFGSAnalyticAbs returns |v|.
-func variablyDimensioned10LBFGSAnalyticAbs(v float64) float64 {
-	if v < 0 {
-		return -v
-	}
-	return v
+	return calls, true
 }
 
 // variablyDimensioned10LBFGSAnalyticConfirmGradient recomputes a difference gradient at x before the run is
@@ -593,33 +560,20 @@ func variablyDimensioned10LBFGSAnalyticConfirmGradient(x *[10]float64, fx float6
 	return calls + 2*variablyDimensioned10LBFGSAnalyticDerivativeCost, true
 }
 
-// variablyDimensioned10LBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func variablyDimensioned10LBFGSAnalyticStepWithin(s, x *[10]float64, tol float64) bool {
-	for i := range s {
-		if !(variablyDimensioned10LBFGSAnalyticAbs(s[i]) <= tol*(variablyDimensioned10LBFGSAnalyticAbs(x[i])+1)) {
-			return false
-		}
+// variablyDimensioned10LBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func variablyDimensioned10LBFGSAnalyticGradientError(x *[10]float64, fx float64, g, e *[10]float64, diffs *variablyDimensioned10LBFGSAnalyticDifferences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// variablyDimensioned10LBFGSAnalyticSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (variablyDimensioned10LBFGSAnalyticConfirmGradient), then it adds to each error
-// bound the rounding floor of x (variablyDimensioned10LBFGSAnalyticRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func variablyDimensioned10LBFGSAnalyticSettle(x *[10]float64, fx float64, g, e *[10]float64, diffs *variablyDimensioned10LBFGSAnalyticDifferences, budget int) (int, bool) {
-	calls := 0
-	if variablyDimensioned10LBFGSAnalyticDerivativeCost > 0 {
-		spent, ok := variablyDimensioned10LBFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// variablyDimensioned10LBFGSAnalyticAbs returns |v|.
+func variablyDimensioned10LBFGSAnalyticAbs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	variablyDimensioned10LBFGSAnalyticRoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // variablyDimensioned10LBFGSAnalyticRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -662,6 +616,49 @@ func variablyDimensioned10LBFGSAnalyticProbeStep(xi, h float64) (float64, float6
 // variablyDimensioned10LBFGSAnalyticSquareRoot returns √v.
 func variablyDimensioned10LBFGSAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// variablyDimensioned10LBFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func variablyDimensioned10LBFGSAnalyticLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// variablyDimensioned10LBFGSAnalyticGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func variablyDimensioned10LBFGSAnalyticGradientMeasure(g, e, x *[10]float64, fx float64) (measure, floor float64) {
+	scale := variablyDimensioned10LBFGSAnalyticLarger(variablyDimensioned10LBFGSAnalyticAbs(fx), 1)
+	for i := range g {
+		w := variablyDimensioned10LBFGSAnalyticLarger(variablyDimensioned10LBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = variablyDimensioned10LBFGSAnalyticLarger(measure, (variablyDimensioned10LBFGSAnalyticAbs(g[i])+e[i])*w)
+		floor = variablyDimensioned10LBFGSAnalyticLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// variablyDimensioned10LBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func variablyDimensioned10LBFGSAnalyticStepWithin(s, x *[10]float64, tol float64) bool {
+	for i := range s {
+		if !(variablyDimensioned10LBFGSAnalyticAbs(s[i]) <= tol*(variablyDimensioned10LBFGSAnalyticAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // variablyDimensioned10LBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the

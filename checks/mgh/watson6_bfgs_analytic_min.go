@@ -190,11 +190,25 @@ func watson6BFGSAnalyticMinimize(x0 [6]float64, lim Watson6BFGSAnalyticLimits) w
 	t, slope := float64(watson6BFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                     // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                           // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                              // whether g and e at x come from watson6BFGSAnalyticConfirmGradient
+	confirmed := false                                              // whether g and e at x come from watson6BFGSAnalyticConfirmGradient or settle
 	stalled := false                                                // whether the run can make no more progress at x
 	retried := -1                                                   // the iteration whose stall was retried with recalibrated differences
+	verify := watson6BFGSAnalyticVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != watson6BFGSAnalyticVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see watson6BFGSAnalyticConfirmGradient and settle).
+			calls, ok := watson6BFGSAnalyticSettle(&x, fx, &g, &e, &diffs, verify == watson6BFGSAnalyticVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(Watson6BFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !watson6BFGSAnalyticFiniteVec(&g) {
+				return best.ending(Watson6BFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = watson6BFGSAnalyticVerifyNothing, true
+		case !confirmed:
 			watson6BFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := watson6BFGSAnalyticGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func watson6BFGSAnalyticMinimize(x0 [6]float64, lim Watson6BFGSAnalyticLimits) w
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := watson6BFGSAnalyticConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(Watson6BFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !watson6BFGSAnalyticFiniteVec(&g) {
-				return best.ending(Watson6BFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = watson6BFGSAnalyticVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func watson6BFGSAnalyticMinimize(x0 [6]float64, lim Watson6BFGSAnalyticLimits) w
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if watson6BFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				calls, ok := watson6BFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(Watson6BFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !watson6BFGSAnalyticFiniteVec(&g) {
-					return best.ending(Watson6BFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = watson6BFGSAnalyticVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func watson6BFGSAnalyticMinimize(x0 [6]float64, lim Watson6BFGSAnalyticLimits) w
 			case found.rising:
 				end = Watson6BFGSAnalyticNoDecrease
 			case found.end == watson6BFGSAnalyticSearchTiny && canSettle:
-				calls, ok := watson6BFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(Watson6BFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !watson6BFGSAnalyticFiniteVec(&g) {
-					return best.ending(Watson6BFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = watson6BFGSAnalyticVerifyStall, true
 				continue
 			case found.end == watson6BFGSAnalyticSearchTiny:
 				end = Watson6BFGSAnalyticStalled
@@ -490,51 +478,30 @@ func watson6BFGSAnalyticCurvatureSafe(s, y *[6]float64) bool {
 	return sy > 0 && (sy/watson6BFGSAnalyticDot(s, s))*(sy/watson6BFGSAnalyticDot(y, y)) > watson6BFGSAnalyticUnitRoundoff
 }
 
-// watson6BFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func watson6BFGSAnalyticGradientError(x *[6]float64, fx float64, g, e *[6]float64, diffs *watson6BFGSAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	watson6BFGSAnalyticVerifyNothing = iota
+	watson6BFGSAnalyticVerifyPass    // a difference gradient passed the test
+	watson6BFGSAnalyticVerifyStall   // no step makes progress
+)
 
-// watson6BFGSAnalyticGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func watson6BFGSAnalyticGradientMeasure(g, e, x *[6]float64, fx float64) (measure, floor float64) {
-	scale := watson6BFGSAnalyticLarger(watson6BFGSAnalyticAbs(fx), 1)
-	for i := range g {
-		w := watson6BFGSAnalyticLarger(watson6BFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = watson6BFGSAnalyticLarger(measure, (watson6BFGSAnalyticAbs(g[i])+e[i])*w)
-		floor = watson6BFGSAnalyticLarger(floor, e[i]*w)
+// watson6BFGSAnalyticSettle prepares a verdict at x: with differences it confirms the
+// gradient (watson6BFGSAnalyticConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (watson6BFGSAnalyticRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func watson6BFGSAnalyticSettle(x *[6]float64, fx float64, g, e *[6]float64, diffs *watson6BFGSAnalyticDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if watson6BFGSAnalyticDerivativeCost > 0 {
+		spent, ok := watson6BFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// watson6BFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func watson6BFGSAnalyticLarger(a, b float64) float64 {
-	if a > b || a != a {
-		return a
+	if stall {
+		watson6BFGSAnalyticRoundingFloor(x, g, e, diffs)
 	}
-	return b
-}
-
-// watson6BFGSAnalyticAbs returns |v|.
-func watson6BFGSAnalyticAbs(v float64) float64 {
-	if v < 0 {
-		return -v
-	}
-	return v
+	return calls, true
 }
 
 // watson6BFGSAnalyticConfirmGradient recomputes a difference gradient at x before the run is
@@ -567,33 +534,20 @@ func watson6BFGSAnalyticConfirmGradient(x *[6]float64, fx float64, g, e *[6]floa
 	return calls + 2*watson6BFGSAnalyticDerivativeCost, true
 }
 
-// watson6BFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func watson6BFGSAnalyticStepWithin(s, x *[6]float64, tol float64) bool {
-	for i := range s {
-		if !(watson6BFGSAnalyticAbs(s[i]) <= tol*(watson6BFGSAnalyticAbs(x[i])+1)) {
-			return false
-		}
+// watson6BFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func watson6BFGSAnalyticGradientError(x *[6]float64, fx float64, g, e *[6]float64, diffs *watson6BFGSAnalyticDifferences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// watson6BFGSAnalyticSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (watson6BFGSAnalyticConfirmGradient), then it adds to each error
-// bound the rounding floor of x (watson6BFGSAnalyticRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func watson6BFGSAnalyticSettle(x *[6]float64, fx float64, g, e *[6]float64, diffs *watson6BFGSAnalyticDifferences, budget int) (int, bool) {
-	calls := 0
-	if watson6BFGSAnalyticDerivativeCost > 0 {
-		spent, ok := watson6BFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// watson6BFGSAnalyticAbs returns |v|.
+func watson6BFGSAnalyticAbs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	watson6BFGSAnalyticRoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // watson6BFGSAnalyticRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -636,6 +590,49 @@ func watson6BFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
 // watson6BFGSAnalyticSquareRoot returns √v.
 func watson6BFGSAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// watson6BFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func watson6BFGSAnalyticLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// watson6BFGSAnalyticGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func watson6BFGSAnalyticGradientMeasure(g, e, x *[6]float64, fx float64) (measure, floor float64) {
+	scale := watson6BFGSAnalyticLarger(watson6BFGSAnalyticAbs(fx), 1)
+	for i := range g {
+		w := watson6BFGSAnalyticLarger(watson6BFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = watson6BFGSAnalyticLarger(measure, (watson6BFGSAnalyticAbs(g[i])+e[i])*w)
+		floor = watson6BFGSAnalyticLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// watson6BFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func watson6BFGSAnalyticStepWithin(s, x *[6]float64, tol float64) bool {
+	for i := range s {
+		if !(watson6BFGSAnalyticAbs(s[i]) <= tol*(watson6BFGSAnalyticAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // watson6BFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the

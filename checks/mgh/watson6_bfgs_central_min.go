@@ -190,11 +190,25 @@ func watson6BFGSCentralMinimize(x0 [6]float64, lim Watson6BFGSCentralLimits) wat
 	t, slope := float64(watson6BFGSCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                    // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                          // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                             // whether g and e at x come from watson6BFGSCentralConfirmGradient
+	confirmed := false                                             // whether g and e at x come from watson6BFGSCentralConfirmGradient or settle
 	stalled := false                                               // whether the run can make no more progress at x
 	retried := -1                                                  // the iteration whose stall was retried with recalibrated differences
+	verify := watson6BFGSCentralVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != watson6BFGSCentralVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see watson6BFGSCentralConfirmGradient and settle).
+			calls, ok := watson6BFGSCentralSettle(&x, fx, &g, &e, &diffs, verify == watson6BFGSCentralVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(Watson6BFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !watson6BFGSCentralFiniteVec(&g) {
+				return best.ending(Watson6BFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = watson6BFGSCentralVerifyNothing, true
+		case !confirmed:
 			watson6BFGSCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := watson6BFGSCentralGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func watson6BFGSCentralMinimize(x0 [6]float64, lim Watson6BFGSCentralLimits) wat
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := watson6BFGSCentralConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(Watson6BFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !watson6BFGSCentralFiniteVec(&g) {
-				return best.ending(Watson6BFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = watson6BFGSCentralVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func watson6BFGSCentralMinimize(x0 [6]float64, lim Watson6BFGSCentralLimits) wat
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if watson6BFGSCentralStepWithin(&s, &x, lim.Step) {
-				calls, ok := watson6BFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(Watson6BFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !watson6BFGSCentralFiniteVec(&g) {
-					return best.ending(Watson6BFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = watson6BFGSCentralVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func watson6BFGSCentralMinimize(x0 [6]float64, lim Watson6BFGSCentralLimits) wat
 			case found.rising:
 				end = Watson6BFGSCentralNoDecrease
 			case found.end == watson6BFGSCentralSearchTiny && canSettle:
-				calls, ok := watson6BFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(Watson6BFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !watson6BFGSCentralFiniteVec(&g) {
-					return best.ending(Watson6BFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = watson6BFGSCentralVerifyStall, true
 				continue
 			case found.end == watson6BFGSCentralSearchTiny:
 				end = Watson6BFGSCentralStalled
@@ -633,37 +621,30 @@ func watson6BFGSCentralCurvatureSafe(s, y *[6]float64) bool {
 	return sy > 0 && (sy/watson6BFGSCentralDot(s, s))*(sy/watson6BFGSCentralDot(y, y)) > watson6BFGSCentralUnitRoundoff
 }
 
-// watson6BFGSCentralGradientError bounds each central difference's error by twice its
-// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
-// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
-// in forwardError).
-func watson6BFGSCentralGradientError(x *[6]float64, fx float64, g, e *[6]float64, diffs *watson6BFGSCentralDifferences) {
-	noise := watson6BFGSCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h := diffs.ratio[i] * watson6BFGSCentralLarger(1, watson6BFGSCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	watson6BFGSCentralVerifyNothing = iota
+	watson6BFGSCentralVerifyPass    // a difference gradient passed the test
+	watson6BFGSCentralVerifyStall   // no step makes progress
+)
 
-// watson6BFGSCentralGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func watson6BFGSCentralGradientMeasure(g, e, x *[6]float64, fx float64) (measure, floor float64) {
-	scale := watson6BFGSCentralLarger(watson6BFGSCentralAbs(fx), 1)
-	for i := range g {
-		w := watson6BFGSCentralLarger(watson6BFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = watson6BFGSCentralLarger(measure, (watson6BFGSCentralAbs(g[i])+e[i])*w)
-		floor = watson6BFGSCentralLarger(floor, e[i]*w)
+// watson6BFGSCentralSettle prepares a verdict at x: with differences it confirms the
+// gradient (watson6BFGSCentralConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (watson6BFGSCentralRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func watson6BFGSCentralSettle(x *[6]float64, fx float64, g, e *[6]float64, diffs *watson6BFGSCentralDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if watson6BFGSCentralDerivativeCost > 0 {
+		spent, ok := watson6BFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
+	if stall {
+		watson6BFGSCentralRoundingFloor(x, g, e, diffs)
+	}
+	return calls, true
 }
 
 // watson6BFGSCentralConfirmGradient recomputes a difference gradient at x before the run is
@@ -696,33 +677,16 @@ func watson6BFGSCentralConfirmGradient(x *[6]float64, fx float64, g, e *[6]float
 	return calls + 2*watson6BFGSCentralDerivativeCost, true
 }
 
-// watson6BFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func watson6BFGSCentralStepWithin(s, x *[6]float64, tol float64) bool {
-	for i := range s {
-		if !(watson6BFGSCentralAbs(s[i]) <= tol*(watson6BFGSCentralAbs(x[i])+1)) {
-			return false
-		}
+// watson6BFGSCentralGradientError bounds each central difference's error by twice its
+// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
+// in forwardError).
+func watson6BFGSCentralGradientError(x *[6]float64, fx float64, g, e *[6]float64, diffs *watson6BFGSCentralDifferences) {
+	noise := watson6BFGSCentralNoiseLevel(x, fx, g)
+	for i := range e {
+		h := diffs.ratio[i] * watson6BFGSCentralLarger(1, watson6BFGSCentralAbs(x[i]))
+		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
 	}
-	return true
-}
-
-// watson6BFGSCentralSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (watson6BFGSCentralConfirmGradient), then it adds to each error
-// bound the rounding floor of x (watson6BFGSCentralRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func watson6BFGSCentralSettle(x *[6]float64, fx float64, g, e *[6]float64, diffs *watson6BFGSCentralDifferences, budget int) (int, bool) {
-	calls := 0
-	if watson6BFGSCentralDerivativeCost > 0 {
-		spent, ok := watson6BFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
-	}
-	watson6BFGSCentralRoundingFloor(x, g, e, diffs)
-	return calls, true
 }
 
 // watson6BFGSCentralRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -743,6 +707,39 @@ func watson6BFGSCentralRoundingFloor(x, g, e *[6]float64, diffs *watson6BFGSCent
 // calibration, which watson6BFGSCentralConfirmGradient has just made at x.
 func watson6BFGSCentralDiagonalCurvature(x, g *[6]float64, diffs *watson6BFGSCentralDifferences, h *[6]float64) {
 	*h = diffs.second
+}
+
+// watson6BFGSCentralGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func watson6BFGSCentralGradientMeasure(g, e, x *[6]float64, fx float64) (measure, floor float64) {
+	scale := watson6BFGSCentralLarger(watson6BFGSCentralAbs(fx), 1)
+	for i := range g {
+		w := watson6BFGSCentralLarger(watson6BFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = watson6BFGSCentralLarger(measure, (watson6BFGSCentralAbs(g[i])+e[i])*w)
+		floor = watson6BFGSCentralLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// watson6BFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func watson6BFGSCentralStepWithin(s, x *[6]float64, tol float64) bool {
+	for i := range s {
+		if !(watson6BFGSCentralAbs(s[i]) <= tol*(watson6BFGSCentralAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // watson6BFGSCentralTinyStep returns the longest t for which the step t·d from x passes the

@@ -190,11 +190,25 @@ func watson6CGCentralMinimize(x0 [6]float64, lim Watson6CGCentralLimits) watson6
 	t, slope := float64(watson6CGCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                  // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                        // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                           // whether g and e at x come from watson6CGCentralConfirmGradient
+	confirmed := false                                           // whether g and e at x come from watson6CGCentralConfirmGradient or settle
 	stalled := false                                             // whether the run can make no more progress at x
 	retried := -1                                                // the iteration whose stall was retried with recalibrated differences
+	verify := watson6CGCentralVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != watson6CGCentralVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see watson6CGCentralConfirmGradient and settle).
+			calls, ok := watson6CGCentralSettle(&x, fx, &g, &e, &diffs, verify == watson6CGCentralVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(Watson6CGCentralOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !watson6CGCentralFiniteVec(&g) {
+				return best.ending(Watson6CGCentralNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = watson6CGCentralVerifyNothing, true
+		case !confirmed:
 			watson6CGCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := watson6CGCentralGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func watson6CGCentralMinimize(x0 [6]float64, lim Watson6CGCentralLimits) watson6
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := watson6CGCentralConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(Watson6CGCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !watson6CGCentralFiniteVec(&g) {
-				return best.ending(Watson6CGCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = watson6CGCentralVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func watson6CGCentralMinimize(x0 [6]float64, lim Watson6CGCentralLimits) watson6
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if watson6CGCentralStepWithin(&s, &x, lim.Step) {
-				calls, ok := watson6CGCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(Watson6CGCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !watson6CGCentralFiniteVec(&g) {
-					return best.ending(Watson6CGCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = watson6CGCentralVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func watson6CGCentralMinimize(x0 [6]float64, lim Watson6CGCentralLimits) watson6
 			case found.rising:
 				end = Watson6CGCentralNoDecrease
 			case found.end == watson6CGCentralSearchTiny && canSettle:
-				calls, ok := watson6CGCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(Watson6CGCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !watson6CGCentralFiniteVec(&g) {
-					return best.ending(Watson6CGCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = watson6CGCentralVerifyStall, true
 				continue
 			case found.end == watson6CGCentralSearchTiny:
 				end = Watson6CGCentralStalled
@@ -615,37 +603,30 @@ func watson6CGCentralScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
-// watson6CGCentralGradientError bounds each central difference's error by twice its
-// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
-// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
-// in forwardError).
-func watson6CGCentralGradientError(x *[6]float64, fx float64, g, e *[6]float64, diffs *watson6CGCentralDifferences) {
-	noise := watson6CGCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h := diffs.ratio[i] * watson6CGCentralLarger(1, watson6CGCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	watson6CGCentralVerifyNothing = iota
+	watson6CGCentralVerifyPass    // a difference gradient passed the test
+	watson6CGCentralVerifyStall   // no step makes progress
+)
 
-// watson6CGCentralGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func watson6CGCentralGradientMeasure(g, e, x *[6]float64, fx float64) (measure, floor float64) {
-	scale := watson6CGCentralLarger(watson6CGCentralAbs(fx), 1)
-	for i := range g {
-		w := watson6CGCentralLarger(watson6CGCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = watson6CGCentralLarger(measure, (watson6CGCentralAbs(g[i])+e[i])*w)
-		floor = watson6CGCentralLarger(floor, e[i]*w)
+// watson6CGCentralSettle prepares a verdict at x: with differences it confirms the
+// gradient (watson6CGCentralConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (watson6CGCentralRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func watson6CGCentralSettle(x *[6]float64, fx float64, g, e *[6]float64, diffs *watson6CGCentralDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if watson6CGCentralDerivativeCost > 0 {
+		spent, ok := watson6CGCentralConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
+	if stall {
+		watson6CGCentralRoundingFloor(x, g, e, diffs)
+	}
+	return calls, true
 }
 
 // watson6CGCentralConfirmGradient recomputes a difference gradient at x before the run is
@@ -678,33 +659,16 @@ func watson6CGCentralConfirmGradient(x *[6]float64, fx float64, g, e *[6]float64
 	return calls + 2*watson6CGCentralDerivativeCost, true
 }
 
-// watson6CGCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func watson6CGCentralStepWithin(s, x *[6]float64, tol float64) bool {
-	for i := range s {
-		if !(watson6CGCentralAbs(s[i]) <= tol*(watson6CGCentralAbs(x[i])+1)) {
-			return false
-		}
+// watson6CGCentralGradientError bounds each central difference's error by twice its
+// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
+// in forwardError).
+func watson6CGCentralGradientError(x *[6]float64, fx float64, g, e *[6]float64, diffs *watson6CGCentralDifferences) {
+	noise := watson6CGCentralNoiseLevel(x, fx, g)
+	for i := range e {
+		h := diffs.ratio[i] * watson6CGCentralLarger(1, watson6CGCentralAbs(x[i]))
+		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
 	}
-	return true
-}
-
-// watson6CGCentralSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (watson6CGCentralConfirmGradient), then it adds to each error
-// bound the rounding floor of x (watson6CGCentralRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func watson6CGCentralSettle(x *[6]float64, fx float64, g, e *[6]float64, diffs *watson6CGCentralDifferences, budget int) (int, bool) {
-	calls := 0
-	if watson6CGCentralDerivativeCost > 0 {
-		spent, ok := watson6CGCentralConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
-	}
-	watson6CGCentralRoundingFloor(x, g, e, diffs)
-	return calls, true
 }
 
 // watson6CGCentralRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -725,6 +689,39 @@ func watson6CGCentralRoundingFloor(x, g, e *[6]float64, diffs *watson6CGCentralD
 // calibration, which watson6CGCentralConfirmGradient has just made at x.
 func watson6CGCentralDiagonalCurvature(x, g *[6]float64, diffs *watson6CGCentralDifferences, h *[6]float64) {
 	*h = diffs.second
+}
+
+// watson6CGCentralGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func watson6CGCentralGradientMeasure(g, e, x *[6]float64, fx float64) (measure, floor float64) {
+	scale := watson6CGCentralLarger(watson6CGCentralAbs(fx), 1)
+	for i := range g {
+		w := watson6CGCentralLarger(watson6CGCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = watson6CGCentralLarger(measure, (watson6CGCentralAbs(g[i])+e[i])*w)
+		floor = watson6CGCentralLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// watson6CGCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func watson6CGCentralStepWithin(s, x *[6]float64, tol float64) bool {
+	for i := range s {
+		if !(watson6CGCentralAbs(s[i]) <= tol*(watson6CGCentralAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // watson6CGCentralTinyStep returns the longest t for which the step t·d from x passes the

@@ -191,11 +191,25 @@ func watson6LBFGSAnalyticMinimize(x0 [6]float64, lim Watson6LBFGSAnalyticLimits)
 	t, slope := float64(watson6LBFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                      // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                            // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                               // whether g and e at x come from watson6LBFGSAnalyticConfirmGradient
+	confirmed := false                                               // whether g and e at x come from watson6LBFGSAnalyticConfirmGradient or settle
 	stalled := false                                                 // whether the run can make no more progress at x
 	retried := -1                                                    // the iteration whose stall was retried with recalibrated differences
+	verify := watson6LBFGSAnalyticVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != watson6LBFGSAnalyticVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see watson6LBFGSAnalyticConfirmGradient and settle).
+			calls, ok := watson6LBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, verify == watson6LBFGSAnalyticVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(Watson6LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !watson6LBFGSAnalyticFiniteVec(&g) {
+				return best.ending(Watson6LBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = watson6LBFGSAnalyticVerifyNothing, true
+		case !confirmed:
 			watson6LBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := watson6LBFGSAnalyticGradientMeasure(&g, &e, &x, fx)
@@ -213,17 +227,7 @@ func watson6LBFGSAnalyticMinimize(x0 [6]float64, lim Watson6LBFGSAnalyticLimits)
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := watson6LBFGSAnalyticConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(Watson6LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !watson6LBFGSAnalyticFiniteVec(&g) {
-				return best.ending(Watson6LBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = watson6LBFGSAnalyticVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -241,15 +245,7 @@ func watson6LBFGSAnalyticMinimize(x0 [6]float64, lim Watson6LBFGSAnalyticLimits)
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if watson6LBFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				calls, ok := watson6LBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(Watson6LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !watson6LBFGSAnalyticFiniteVec(&g) {
-					return best.ending(Watson6LBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = watson6LBFGSAnalyticVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -290,15 +286,7 @@ func watson6LBFGSAnalyticMinimize(x0 [6]float64, lim Watson6LBFGSAnalyticLimits)
 			case found.rising:
 				end = Watson6LBFGSAnalyticNoDecrease
 			case found.end == watson6LBFGSAnalyticSearchTiny && canSettle:
-				calls, ok := watson6LBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(Watson6LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !watson6LBFGSAnalyticFiniteVec(&g) {
-					return best.ending(Watson6LBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = watson6LBFGSAnalyticVerifyStall, true
 				continue
 			case found.end == watson6LBFGSAnalyticSearchTiny:
 				end = Watson6LBFGSAnalyticStalled
@@ -516,51 +504,30 @@ func watson6LBFGSAnalyticCurvatureSafe(s, y *[6]float64) bool {
 	return sy > 0 && (sy/watson6LBFGSAnalyticDot(s, s))*(sy/watson6LBFGSAnalyticDot(y, y)) > watson6LBFGSAnalyticUnitRoundoff
 }
 
-// watson6LBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func watson6LBFGSAnalyticGradientError(x *[6]float64, fx float64, g, e *[6]float64, diffs *watson6LBFGSAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	watson6LBFGSAnalyticVerifyNothing = iota
+	watson6LBFGSAnalyticVerifyPass    // a difference gradient passed the test
+	watson6LBFGSAnalyticVerifyStall   // no step makes progress
+)
 
-// watson6LBFGSAnalyticGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func watson6LBFGSAnalyticGradientMeasure(g, e, x *[6]float64, fx float64) (measure, floor float64) {
-	scale := watson6LBFGSAnalyticLarger(watson6LBFGSAnalyticAbs(fx), 1)
-	for i := range g {
-		w := watson6LBFGSAnalyticLarger(watson6LBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = watson6LBFGSAnalyticLarger(measure, (watson6LBFGSAnalyticAbs(g[i])+e[i])*w)
-		floor = watson6LBFGSAnalyticLarger(floor, e[i]*w)
+// watson6LBFGSAnalyticSettle prepares a verdict at x: with differences it confirms the
+// gradient (watson6LBFGSAnalyticConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (watson6LBFGSAnalyticRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func watson6LBFGSAnalyticSettle(x *[6]float64, fx float64, g, e *[6]float64, diffs *watson6LBFGSAnalyticDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if watson6LBFGSAnalyticDerivativeCost > 0 {
+		spent, ok := watson6LBFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// watson6LBFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func watson6LBFGSAnalyticLarger(a, b float64) float64 {
-	if a > b || a != a {
-		return a
+	if stall {
+		watson6LBFGSAnalyticRoundingFloor(x, g, e, diffs)
 	}
-	return b
-}
-
-// watson6LBFGSAnalyticAbs returns |v|.
-func watson6LBFGSAnalyticAbs(v float64) float64 {
-	if v < 0 {
-		return -v
-	}
-	return v
+	return calls, true
 }
 
 // watson6LBFGSAnalyticConfirmGradient recomputes a difference gradient at x before the run is
@@ -593,33 +560,20 @@ func watson6LBFGSAnalyticConfirmGradient(x *[6]float64, fx float64, g, e *[6]flo
 	return calls + 2*watson6LBFGSAnalyticDerivativeCost, true
 }
 
-// watson6LBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func watson6LBFGSAnalyticStepWithin(s, x *[6]float64, tol float64) bool {
-	for i := range s {
-		if !(watson6LBFGSAnalyticAbs(s[i]) <= tol*(watson6LBFGSAnalyticAbs(x[i])+1)) {
-			return false
-		}
+// watson6LBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func watson6LBFGSAnalyticGradientError(x *[6]float64, fx float64, g, e *[6]float64, diffs *watson6LBFGSAnalyticDifferences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// watson6LBFGSAnalyticSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (watson6LBFGSAnalyticConfirmGradient), then it adds to each error
-// bound the rounding floor of x (watson6LBFGSAnalyticRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func watson6LBFGSAnalyticSettle(x *[6]float64, fx float64, g, e *[6]float64, diffs *watson6LBFGSAnalyticDifferences, budget int) (int, bool) {
-	calls := 0
-	if watson6LBFGSAnalyticDerivativeCost > 0 {
-		spent, ok := watson6LBFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// watson6LBFGSAnalyticAbs returns |v|.
+func watson6LBFGSAnalyticAbs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	watson6LBFGSAnalyticRoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // watson6LBFGSAnalyticRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -662,6 +616,49 @@ func watson6LBFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
 // watson6LBFGSAnalyticSquareRoot returns √v.
 func watson6LBFGSAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// watson6LBFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func watson6LBFGSAnalyticLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// watson6LBFGSAnalyticGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func watson6LBFGSAnalyticGradientMeasure(g, e, x *[6]float64, fx float64) (measure, floor float64) {
+	scale := watson6LBFGSAnalyticLarger(watson6LBFGSAnalyticAbs(fx), 1)
+	for i := range g {
+		w := watson6LBFGSAnalyticLarger(watson6LBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = watson6LBFGSAnalyticLarger(measure, (watson6LBFGSAnalyticAbs(g[i])+e[i])*w)
+		floor = watson6LBFGSAnalyticLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// watson6LBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func watson6LBFGSAnalyticStepWithin(s, x *[6]float64, tol float64) bool {
+	for i := range s {
+		if !(watson6LBFGSAnalyticAbs(s[i]) <= tol*(watson6LBFGSAnalyticAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // watson6LBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the

@@ -191,11 +191,25 @@ func watson6LBFGSCentralMinimize(x0 [6]float64, lim Watson6LBFGSCentralLimits) w
 	t, slope := float64(watson6LBFGSCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                     // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                           // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                              // whether g and e at x come from watson6LBFGSCentralConfirmGradient
+	confirmed := false                                              // whether g and e at x come from watson6LBFGSCentralConfirmGradient or settle
 	stalled := false                                                // whether the run can make no more progress at x
 	retried := -1                                                   // the iteration whose stall was retried with recalibrated differences
+	verify := watson6LBFGSCentralVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != watson6LBFGSCentralVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see watson6LBFGSCentralConfirmGradient and settle).
+			calls, ok := watson6LBFGSCentralSettle(&x, fx, &g, &e, &diffs, verify == watson6LBFGSCentralVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(Watson6LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !watson6LBFGSCentralFiniteVec(&g) {
+				return best.ending(Watson6LBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = watson6LBFGSCentralVerifyNothing, true
+		case !confirmed:
 			watson6LBFGSCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := watson6LBFGSCentralGradientMeasure(&g, &e, &x, fx)
@@ -213,17 +227,7 @@ func watson6LBFGSCentralMinimize(x0 [6]float64, lim Watson6LBFGSCentralLimits) w
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := watson6LBFGSCentralConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(Watson6LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !watson6LBFGSCentralFiniteVec(&g) {
-				return best.ending(Watson6LBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = watson6LBFGSCentralVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -241,15 +245,7 @@ func watson6LBFGSCentralMinimize(x0 [6]float64, lim Watson6LBFGSCentralLimits) w
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if watson6LBFGSCentralStepWithin(&s, &x, lim.Step) {
-				calls, ok := watson6LBFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(Watson6LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !watson6LBFGSCentralFiniteVec(&g) {
-					return best.ending(Watson6LBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = watson6LBFGSCentralVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -290,15 +286,7 @@ func watson6LBFGSCentralMinimize(x0 [6]float64, lim Watson6LBFGSCentralLimits) w
 			case found.rising:
 				end = Watson6LBFGSCentralNoDecrease
 			case found.end == watson6LBFGSCentralSearchTiny && canSettle:
-				calls, ok := watson6LBFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(Watson6LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !watson6LBFGSCentralFiniteVec(&g) {
-					return best.ending(Watson6LBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = watson6LBFGSCentralVerifyStall, true
 				continue
 			case found.end == watson6LBFGSCentralSearchTiny:
 				end = Watson6LBFGSCentralStalled
@@ -659,37 +647,30 @@ func watson6LBFGSCentralCurvatureSafe(s, y *[6]float64) bool {
 	return sy > 0 && (sy/watson6LBFGSCentralDot(s, s))*(sy/watson6LBFGSCentralDot(y, y)) > watson6LBFGSCentralUnitRoundoff
 }
 
-// watson6LBFGSCentralGradientError bounds each central difference's error by twice its
-// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
-// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
-// in forwardError).
-func watson6LBFGSCentralGradientError(x *[6]float64, fx float64, g, e *[6]float64, diffs *watson6LBFGSCentralDifferences) {
-	noise := watson6LBFGSCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h := diffs.ratio[i] * watson6LBFGSCentralLarger(1, watson6LBFGSCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	watson6LBFGSCentralVerifyNothing = iota
+	watson6LBFGSCentralVerifyPass    // a difference gradient passed the test
+	watson6LBFGSCentralVerifyStall   // no step makes progress
+)
 
-// watson6LBFGSCentralGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func watson6LBFGSCentralGradientMeasure(g, e, x *[6]float64, fx float64) (measure, floor float64) {
-	scale := watson6LBFGSCentralLarger(watson6LBFGSCentralAbs(fx), 1)
-	for i := range g {
-		w := watson6LBFGSCentralLarger(watson6LBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = watson6LBFGSCentralLarger(measure, (watson6LBFGSCentralAbs(g[i])+e[i])*w)
-		floor = watson6LBFGSCentralLarger(floor, e[i]*w)
+// watson6LBFGSCentralSettle prepares a verdict at x: with differences it confirms the
+// gradient (watson6LBFGSCentralConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (watson6LBFGSCentralRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func watson6LBFGSCentralSettle(x *[6]float64, fx float64, g, e *[6]float64, diffs *watson6LBFGSCentralDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if watson6LBFGSCentralDerivativeCost > 0 {
+		spent, ok := watson6LBFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
+	if stall {
+		watson6LBFGSCentralRoundingFloor(x, g, e, diffs)
+	}
+	return calls, true
 }
 
 // watson6LBFGSCentralConfirmGradient recomputes a difference gradient at x before the run is
@@ -722,33 +703,16 @@ func watson6LBFGSCentralConfirmGradient(x *[6]float64, fx float64, g, e *[6]floa
 	return calls + 2*watson6LBFGSCentralDerivativeCost, true
 }
 
-// watson6LBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func watson6LBFGSCentralStepWithin(s, x *[6]float64, tol float64) bool {
-	for i := range s {
-		if !(watson6LBFGSCentralAbs(s[i]) <= tol*(watson6LBFGSCentralAbs(x[i])+1)) {
-			return false
-		}
+// watson6LBFGSCentralGradientError bounds each central difference's error by twice its
+// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
+// in forwardError).
+func watson6LBFGSCentralGradientError(x *[6]float64, fx float64, g, e *[6]float64, diffs *watson6LBFGSCentralDifferences) {
+	noise := watson6LBFGSCentralNoiseLevel(x, fx, g)
+	for i := range e {
+		h := diffs.ratio[i] * watson6LBFGSCentralLarger(1, watson6LBFGSCentralAbs(x[i]))
+		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
 	}
-	return true
-}
-
-// watson6LBFGSCentralSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (watson6LBFGSCentralConfirmGradient), then it adds to each error
-// bound the rounding floor of x (watson6LBFGSCentralRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func watson6LBFGSCentralSettle(x *[6]float64, fx float64, g, e *[6]float64, diffs *watson6LBFGSCentralDifferences, budget int) (int, bool) {
-	calls := 0
-	if watson6LBFGSCentralDerivativeCost > 0 {
-		spent, ok := watson6LBFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
-	}
-	watson6LBFGSCentralRoundingFloor(x, g, e, diffs)
-	return calls, true
 }
 
 // watson6LBFGSCentralRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -769,6 +733,39 @@ func watson6LBFGSCentralRoundingFloor(x, g, e *[6]float64, diffs *watson6LBFGSCe
 // calibration, which watson6LBFGSCentralConfirmGradient has just made at x.
 func watson6LBFGSCentralDiagonalCurvature(x, g *[6]float64, diffs *watson6LBFGSCentralDifferences, h *[6]float64) {
 	*h = diffs.second
+}
+
+// watson6LBFGSCentralGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func watson6LBFGSCentralGradientMeasure(g, e, x *[6]float64, fx float64) (measure, floor float64) {
+	scale := watson6LBFGSCentralLarger(watson6LBFGSCentralAbs(fx), 1)
+	for i := range g {
+		w := watson6LBFGSCentralLarger(watson6LBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = watson6LBFGSCentralLarger(measure, (watson6LBFGSCentralAbs(g[i])+e[i])*w)
+		floor = watson6LBFGSCentralLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// watson6LBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func watson6LBFGSCentralStepWithin(s, x *[6]float64, tol float64) bool {
+	for i := range s {
+		if !(watson6LBFGSCentralAbs(s[i]) <= tol*(watson6LBFGSCentralAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // watson6LBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the

@@ -190,11 +190,25 @@ func watson9BFGSAnalyticMinimize(x0 [9]float64, lim Watson9BFGSAnalyticLimits) w
 	t, slope := float64(watson9BFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                     // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                           // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                              // whether g and e at x come from watson9BFGSAnalyticConfirmGradient
+	confirmed := false                                              // whether g and e at x come from watson9BFGSAnalyticConfirmGradient or settle
 	stalled := false                                                // whether the run can make no more progress at x
 	retried := -1                                                   // the iteration whose stall was retried with recalibrated differences
+	verify := watson9BFGSAnalyticVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != watson9BFGSAnalyticVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see watson9BFGSAnalyticConfirmGradient and settle).
+			calls, ok := watson9BFGSAnalyticSettle(&x, fx, &g, &e, &diffs, verify == watson9BFGSAnalyticVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(Watson9BFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !watson9BFGSAnalyticFiniteVec(&g) {
+				return best.ending(Watson9BFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = watson9BFGSAnalyticVerifyNothing, true
+		case !confirmed:
 			watson9BFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := watson9BFGSAnalyticGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func watson9BFGSAnalyticMinimize(x0 [9]float64, lim Watson9BFGSAnalyticLimits) w
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := watson9BFGSAnalyticConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(Watson9BFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !watson9BFGSAnalyticFiniteVec(&g) {
-				return best.ending(Watson9BFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = watson9BFGSAnalyticVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func watson9BFGSAnalyticMinimize(x0 [9]float64, lim Watson9BFGSAnalyticLimits) w
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if watson9BFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				calls, ok := watson9BFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(Watson9BFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !watson9BFGSAnalyticFiniteVec(&g) {
-					return best.ending(Watson9BFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = watson9BFGSAnalyticVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func watson9BFGSAnalyticMinimize(x0 [9]float64, lim Watson9BFGSAnalyticLimits) w
 			case found.rising:
 				end = Watson9BFGSAnalyticNoDecrease
 			case found.end == watson9BFGSAnalyticSearchTiny && canSettle:
-				calls, ok := watson9BFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(Watson9BFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !watson9BFGSAnalyticFiniteVec(&g) {
-					return best.ending(Watson9BFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = watson9BFGSAnalyticVerifyStall, true
 				continue
 			case found.end == watson9BFGSAnalyticSearchTiny:
 				end = Watson9BFGSAnalyticStalled
@@ -490,51 +478,30 @@ func watson9BFGSAnalyticCurvatureSafe(s, y *[9]float64) bool {
 	return sy > 0 && (sy/watson9BFGSAnalyticDot(s, s))*(sy/watson9BFGSAnalyticDot(y, y)) > watson9BFGSAnalyticUnitRoundoff
 }
 
-// watson9BFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func watson9BFGSAnalyticGradientError(x *[9]float64, fx float64, g, e *[9]float64, diffs *watson9BFGSAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	watson9BFGSAnalyticVerifyNothing = iota
+	watson9BFGSAnalyticVerifyPass    // a difference gradient passed the test
+	watson9BFGSAnalyticVerifyStall   // no step makes progress
+)
 
-// watson9BFGSAnalyticGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func watson9BFGSAnalyticGradientMeasure(g, e, x *[9]float64, fx float64) (measure, floor float64) {
-	scale := watson9BFGSAnalyticLarger(watson9BFGSAnalyticAbs(fx), 1)
-	for i := range g {
-		w := watson9BFGSAnalyticLarger(watson9BFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = watson9BFGSAnalyticLarger(measure, (watson9BFGSAnalyticAbs(g[i])+e[i])*w)
-		floor = watson9BFGSAnalyticLarger(floor, e[i]*w)
+// watson9BFGSAnalyticSettle prepares a verdict at x: with differences it confirms the
+// gradient (watson9BFGSAnalyticConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (watson9BFGSAnalyticRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func watson9BFGSAnalyticSettle(x *[9]float64, fx float64, g, e *[9]float64, diffs *watson9BFGSAnalyticDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if watson9BFGSAnalyticDerivativeCost > 0 {
+		spent, ok := watson9BFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// watson9BFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func watson9BFGSAnalyticLarger(a, b float64) float64 {
-	if a > b || a != a {
-		return a
+	if stall {
+		watson9BFGSAnalyticRoundingFloor(x, g, e, diffs)
 	}
-	return b
-}
-
-// watson9BFGSAnalyticAbs returns |v|.
-func watson9BFGSAnalyticAbs(v float64) float64 {
-	if v < 0 {
-		return -v
-	}
-	return v
+	return calls, true
 }
 
 // watson9BFGSAnalyticConfirmGradient recomputes a difference gradient at x before the run is
@@ -567,33 +534,20 @@ func watson9BFGSAnalyticConfirmGradient(x *[9]float64, fx float64, g, e *[9]floa
 	return calls + 2*watson9BFGSAnalyticDerivativeCost, true
 }
 
-// watson9BFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func watson9BFGSAnalyticStepWithin(s, x *[9]float64, tol float64) bool {
-	for i := range s {
-		if !(watson9BFGSAnalyticAbs(s[i]) <= tol*(watson9BFGSAnalyticAbs(x[i])+1)) {
-			return false
-		}
+// watson9BFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func watson9BFGSAnalyticGradientError(x *[9]float64, fx float64, g, e *[9]float64, diffs *watson9BFGSAnalyticDifferences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// watson9BFGSAnalyticSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (watson9BFGSAnalyticConfirmGradient), then it adds to each error
-// bound the rounding floor of x (watson9BFGSAnalyticRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func watson9BFGSAnalyticSettle(x *[9]float64, fx float64, g, e *[9]float64, diffs *watson9BFGSAnalyticDifferences, budget int) (int, bool) {
-	calls := 0
-	if watson9BFGSAnalyticDerivativeCost > 0 {
-		spent, ok := watson9BFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// watson9BFGSAnalyticAbs returns |v|.
+func watson9BFGSAnalyticAbs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	watson9BFGSAnalyticRoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // watson9BFGSAnalyticRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -636,6 +590,49 @@ func watson9BFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
 // watson9BFGSAnalyticSquareRoot returns √v.
 func watson9BFGSAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// watson9BFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func watson9BFGSAnalyticLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// watson9BFGSAnalyticGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func watson9BFGSAnalyticGradientMeasure(g, e, x *[9]float64, fx float64) (measure, floor float64) {
+	scale := watson9BFGSAnalyticLarger(watson9BFGSAnalyticAbs(fx), 1)
+	for i := range g {
+		w := watson9BFGSAnalyticLarger(watson9BFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = watson9BFGSAnalyticLarger(measure, (watson9BFGSAnalyticAbs(g[i])+e[i])*w)
+		floor = watson9BFGSAnalyticLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// watson9BFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func watson9BFGSAnalyticStepWithin(s, x *[9]float64, tol float64) bool {
+	for i := range s {
+		if !(watson9BFGSAnalyticAbs(s[i]) <= tol*(watson9BFGSAnalyticAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // watson9BFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the

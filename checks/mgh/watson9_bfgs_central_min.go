@@ -190,11 +190,25 @@ func watson9BFGSCentralMinimize(x0 [9]float64, lim Watson9BFGSCentralLimits) wat
 	t, slope := float64(watson9BFGSCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                    // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                          // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                             // whether g and e at x come from watson9BFGSCentralConfirmGradient
+	confirmed := false                                             // whether g and e at x come from watson9BFGSCentralConfirmGradient or settle
 	stalled := false                                               // whether the run can make no more progress at x
 	retried := -1                                                  // the iteration whose stall was retried with recalibrated differences
+	verify := watson9BFGSCentralVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != watson9BFGSCentralVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see watson9BFGSCentralConfirmGradient and settle).
+			calls, ok := watson9BFGSCentralSettle(&x, fx, &g, &e, &diffs, verify == watson9BFGSCentralVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(Watson9BFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !watson9BFGSCentralFiniteVec(&g) {
+				return best.ending(Watson9BFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = watson9BFGSCentralVerifyNothing, true
+		case !confirmed:
 			watson9BFGSCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := watson9BFGSCentralGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func watson9BFGSCentralMinimize(x0 [9]float64, lim Watson9BFGSCentralLimits) wat
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := watson9BFGSCentralConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(Watson9BFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !watson9BFGSCentralFiniteVec(&g) {
-				return best.ending(Watson9BFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = watson9BFGSCentralVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func watson9BFGSCentralMinimize(x0 [9]float64, lim Watson9BFGSCentralLimits) wat
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if watson9BFGSCentralStepWithin(&s, &x, lim.Step) {
-				calls, ok := watson9BFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(Watson9BFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !watson9BFGSCentralFiniteVec(&g) {
-					return best.ending(Watson9BFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = watson9BFGSCentralVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func watson9BFGSCentralMinimize(x0 [9]float64, lim Watson9BFGSCentralLimits) wat
 			case found.rising:
 				end = Watson9BFGSCentralNoDecrease
 			case found.end == watson9BFGSCentralSearchTiny && canSettle:
-				calls, ok := watson9BFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(Watson9BFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !watson9BFGSCentralFiniteVec(&g) {
-					return best.ending(Watson9BFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = watson9BFGSCentralVerifyStall, true
 				continue
 			case found.end == watson9BFGSCentralSearchTiny:
 				end = Watson9BFGSCentralStalled
@@ -633,37 +621,30 @@ func watson9BFGSCentralCurvatureSafe(s, y *[9]float64) bool {
 	return sy > 0 && (sy/watson9BFGSCentralDot(s, s))*(sy/watson9BFGSCentralDot(y, y)) > watson9BFGSCentralUnitRoundoff
 }
 
-// watson9BFGSCentralGradientError bounds each central difference's error by twice its
-// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
-// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
-// in forwardError).
-func watson9BFGSCentralGradientError(x *[9]float64, fx float64, g, e *[9]float64, diffs *watson9BFGSCentralDifferences) {
-	noise := watson9BFGSCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h := diffs.ratio[i] * watson9BFGSCentralLarger(1, watson9BFGSCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	watson9BFGSCentralVerifyNothing = iota
+	watson9BFGSCentralVerifyPass    // a difference gradient passed the test
+	watson9BFGSCentralVerifyStall   // no step makes progress
+)
 
-// watson9BFGSCentralGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func watson9BFGSCentralGradientMeasure(g, e, x *[9]float64, fx float64) (measure, floor float64) {
-	scale := watson9BFGSCentralLarger(watson9BFGSCentralAbs(fx), 1)
-	for i := range g {
-		w := watson9BFGSCentralLarger(watson9BFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = watson9BFGSCentralLarger(measure, (watson9BFGSCentralAbs(g[i])+e[i])*w)
-		floor = watson9BFGSCentralLarger(floor, e[i]*w)
+// watson9BFGSCentralSettle prepares a verdict at x: with differences it confirms the
+// gradient (watson9BFGSCentralConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (watson9BFGSCentralRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func watson9BFGSCentralSettle(x *[9]float64, fx float64, g, e *[9]float64, diffs *watson9BFGSCentralDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if watson9BFGSCentralDerivativeCost > 0 {
+		spent, ok := watson9BFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
+	if stall {
+		watson9BFGSCentralRoundingFloor(x, g, e, diffs)
+	}
+	return calls, true
 }
 
 // watson9BFGSCentralConfirmGradient recomputes a difference gradient at x before the run is
@@ -696,33 +677,16 @@ func watson9BFGSCentralConfirmGradient(x *[9]float64, fx float64, g, e *[9]float
 	return calls + 2*watson9BFGSCentralDerivativeCost, true
 }
 
-// watson9BFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func watson9BFGSCentralStepWithin(s, x *[9]float64, tol float64) bool {
-	for i := range s {
-		if !(watson9BFGSCentralAbs(s[i]) <= tol*(watson9BFGSCentralAbs(x[i])+1)) {
-			return false
-		}
+// watson9BFGSCentralGradientError bounds each central difference's error by twice its
+// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
+// in forwardError).
+func watson9BFGSCentralGradientError(x *[9]float64, fx float64, g, e *[9]float64, diffs *watson9BFGSCentralDifferences) {
+	noise := watson9BFGSCentralNoiseLevel(x, fx, g)
+	for i := range e {
+		h := diffs.ratio[i] * watson9BFGSCentralLarger(1, watson9BFGSCentralAbs(x[i]))
+		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
 	}
-	return true
-}
-
-// watson9BFGSCentralSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (watson9BFGSCentralConfirmGradient), then it adds to each error
-// bound the rounding floor of x (watson9BFGSCentralRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func watson9BFGSCentralSettle(x *[9]float64, fx float64, g, e *[9]float64, diffs *watson9BFGSCentralDifferences, budget int) (int, bool) {
-	calls := 0
-	if watson9BFGSCentralDerivativeCost > 0 {
-		spent, ok := watson9BFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
-	}
-	watson9BFGSCentralRoundingFloor(x, g, e, diffs)
-	return calls, true
 }
 
 // watson9BFGSCentralRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -743,6 +707,39 @@ func watson9BFGSCentralRoundingFloor(x, g, e *[9]float64, diffs *watson9BFGSCent
 // calibration, which watson9BFGSCentralConfirmGradient has just made at x.
 func watson9BFGSCentralDiagonalCurvature(x, g *[9]float64, diffs *watson9BFGSCentralDifferences, h *[9]float64) {
 	*h = diffs.second
+}
+
+// watson9BFGSCentralGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func watson9BFGSCentralGradientMeasure(g, e, x *[9]float64, fx float64) (measure, floor float64) {
+	scale := watson9BFGSCentralLarger(watson9BFGSCentralAbs(fx), 1)
+	for i := range g {
+		w := watson9BFGSCentralLarger(watson9BFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = watson9BFGSCentralLarger(measure, (watson9BFGSCentralAbs(g[i])+e[i])*w)
+		floor = watson9BFGSCentralLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// watson9BFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func watson9BFGSCentralStepWithin(s, x *[9]float64, tol float64) bool {
+	for i := range s {
+		if !(watson9BFGSCentralAbs(s[i]) <= tol*(watson9BFGSCentralAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // watson9BFGSCentralTinyStep returns the longest t for which the step t·d from x passes the

@@ -190,11 +190,25 @@ func watson9CGAnalyticMinimize(x0 [9]float64, lim Watson9CGAnalyticLimits) watso
 	t, slope := float64(watson9CGAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                   // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                         // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                            // whether g and e at x come from watson9CGAnalyticConfirmGradient
+	confirmed := false                                            // whether g and e at x come from watson9CGAnalyticConfirmGradient or settle
 	stalled := false                                              // whether the run can make no more progress at x
 	retried := -1                                                 // the iteration whose stall was retried with recalibrated differences
+	verify := watson9CGAnalyticVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != watson9CGAnalyticVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see watson9CGAnalyticConfirmGradient and settle).
+			calls, ok := watson9CGAnalyticSettle(&x, fx, &g, &e, &diffs, verify == watson9CGAnalyticVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(Watson9CGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !watson9CGAnalyticFiniteVec(&g) {
+				return best.ending(Watson9CGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = watson9CGAnalyticVerifyNothing, true
+		case !confirmed:
 			watson9CGAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := watson9CGAnalyticGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func watson9CGAnalyticMinimize(x0 [9]float64, lim Watson9CGAnalyticLimits) watso
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := watson9CGAnalyticConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(Watson9CGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !watson9CGAnalyticFiniteVec(&g) {
-				return best.ending(Watson9CGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = watson9CGAnalyticVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func watson9CGAnalyticMinimize(x0 [9]float64, lim Watson9CGAnalyticLimits) watso
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if watson9CGAnalyticStepWithin(&s, &x, lim.Step) {
-				calls, ok := watson9CGAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(Watson9CGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !watson9CGAnalyticFiniteVec(&g) {
-					return best.ending(Watson9CGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = watson9CGAnalyticVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func watson9CGAnalyticMinimize(x0 [9]float64, lim Watson9CGAnalyticLimits) watso
 			case found.rising:
 				end = Watson9CGAnalyticNoDecrease
 			case found.end == watson9CGAnalyticSearchTiny && canSettle:
-				calls, ok := watson9CGAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(Watson9CGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !watson9CGAnalyticFiniteVec(&g) {
-					return best.ending(Watson9CGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = watson9CGAnalyticVerifyStall, true
 				continue
 			case found.end == watson9CGAnalyticSearchTiny:
 				end = Watson9CGAnalyticStalled
@@ -482,41 +470,30 @@ func watson9CGAnalyticScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
-// watson9CGAnalyticGradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func watson9CGAnalyticGradientError(x *[9]float64, fx float64, g, e *[9]float64, diffs *watson9CGAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	watson9CGAnalyticVerifyNothing = iota
+	watson9CGAnalyticVerifyPass    // a difference gradient passed the test
+	watson9CGAnalyticVerifyStall   // no step makes progress
+)
 
-// watson9CGAnalyticGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func watson9CGAnalyticGradientMeasure(g, e, x *[9]float64, fx float64) (measure, floor float64) {
-	scale := watson9CGAnalyticLarger(watson9CGAnalyticAbs(fx), 1)
-	for i := range g {
-		w := watson9CGAnalyticLarger(watson9CGAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = watson9CGAnalyticLarger(measure, (watson9CGAnalyticAbs(g[i])+e[i])*w)
-		floor = watson9CGAnalyticLarger(floor, e[i]*w)
+// watson9CGAnalyticSettle prepares a verdict at x: with differences it confirms the
+// gradient (watson9CGAnalyticConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (watson9CGAnalyticRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func watson9CGAnalyticSettle(x *[9]float64, fx float64, g, e *[9]float64, diffs *watson9CGAnalyticDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if watson9CGAnalyticDerivativeCost > 0 {
+		spent, ok := watson9CGAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// watson9CGAnalyticAbs returns |v|.
-func watson9CGAnalyticAbs(v float64) float64 {
-	if v < 0 {
-		return -v
+	if stall {
+		watson9CGAnalyticRoundingFloor(x, g, e, diffs)
 	}
-	return v
+	return calls, true
 }
 
 // watson9CGAnalyticConfirmGradient recomputes a difference gradient at x before the run is
@@ -549,33 +526,20 @@ func watson9CGAnalyticConfirmGradient(x *[9]float64, fx float64, g, e *[9]float6
 	return calls + 2*watson9CGAnalyticDerivativeCost, true
 }
 
-// watson9CGAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func watson9CGAnalyticStepWithin(s, x *[9]float64, tol float64) bool {
-	for i := range s {
-		if !(watson9CGAnalyticAbs(s[i]) <= tol*(watson9CGAnalyticAbs(x[i])+1)) {
-			return false
-		}
+// watson9CGAnalyticGradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func watson9CGAnalyticGradientError(x *[9]float64, fx float64, g, e *[9]float64, diffs *watson9CGAnalyticDifferences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// watson9CGAnalyticSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (watson9CGAnalyticConfirmGradient), then it adds to each error
-// bound the rounding floor of x (watson9CGAnalyticRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func watson9CGAnalyticSettle(x *[9]float64, fx float64, g, e *[9]float64, diffs *watson9CGAnalyticDifferences, budget int) (int, bool) {
-	calls := 0
-	if watson9CGAnalyticDerivativeCost > 0 {
-		spent, ok := watson9CGAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// watson9CGAnalyticAbs returns |v|.
+func watson9CGAnalyticAbs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	watson9CGAnalyticRoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // watson9CGAnalyticRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -618,6 +582,39 @@ func watson9CGAnalyticProbeStep(xi, h float64) (float64, float64) {
 // watson9CGAnalyticSquareRoot returns √v.
 func watson9CGAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// watson9CGAnalyticGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func watson9CGAnalyticGradientMeasure(g, e, x *[9]float64, fx float64) (measure, floor float64) {
+	scale := watson9CGAnalyticLarger(watson9CGAnalyticAbs(fx), 1)
+	for i := range g {
+		w := watson9CGAnalyticLarger(watson9CGAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = watson9CGAnalyticLarger(measure, (watson9CGAnalyticAbs(g[i])+e[i])*w)
+		floor = watson9CGAnalyticLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// watson9CGAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func watson9CGAnalyticStepWithin(s, x *[9]float64, tol float64) bool {
+	for i := range s {
+		if !(watson9CGAnalyticAbs(s[i]) <= tol*(watson9CGAnalyticAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // watson9CGAnalyticTinyStep returns the longest t for which the step t·d from x passes the

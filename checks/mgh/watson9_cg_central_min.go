@@ -190,11 +190,25 @@ func watson9CGCentralMinimize(x0 [9]float64, lim Watson9CGCentralLimits) watson9
 	t, slope := float64(watson9CGCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                  // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                        // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                           // whether g and e at x come from watson9CGCentralConfirmGradient
+	confirmed := false                                           // whether g and e at x come from watson9CGCentralConfirmGradient or settle
 	stalled := false                                             // whether the run can make no more progress at x
 	retried := -1                                                // the iteration whose stall was retried with recalibrated differences
+	verify := watson9CGCentralVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != watson9CGCentralVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see watson9CGCentralConfirmGradient and settle).
+			calls, ok := watson9CGCentralSettle(&x, fx, &g, &e, &diffs, verify == watson9CGCentralVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(Watson9CGCentralOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !watson9CGCentralFiniteVec(&g) {
+				return best.ending(Watson9CGCentralNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = watson9CGCentralVerifyNothing, true
+		case !confirmed:
 			watson9CGCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := watson9CGCentralGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func watson9CGCentralMinimize(x0 [9]float64, lim Watson9CGCentralLimits) watson9
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := watson9CGCentralConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(Watson9CGCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !watson9CGCentralFiniteVec(&g) {
-				return best.ending(Watson9CGCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = watson9CGCentralVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func watson9CGCentralMinimize(x0 [9]float64, lim Watson9CGCentralLimits) watson9
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if watson9CGCentralStepWithin(&s, &x, lim.Step) {
-				calls, ok := watson9CGCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(Watson9CGCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !watson9CGCentralFiniteVec(&g) {
-					return best.ending(Watson9CGCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = watson9CGCentralVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func watson9CGCentralMinimize(x0 [9]float64, lim Watson9CGCentralLimits) watson9
 			case found.rising:
 				end = Watson9CGCentralNoDecrease
 			case found.end == watson9CGCentralSearchTiny && canSettle:
-				calls, ok := watson9CGCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(Watson9CGCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !watson9CGCentralFiniteVec(&g) {
-					return best.ending(Watson9CGCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = watson9CGCentralVerifyStall, true
 				continue
 			case found.end == watson9CGCentralSearchTiny:
 				end = Watson9CGCentralStalled
@@ -615,37 +603,30 @@ func watson9CGCentralScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
-// watson9CGCentralGradientError bounds each central difference's error by twice its
-// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
-// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
-// in forwardError).
-func watson9CGCentralGradientError(x *[9]float64, fx float64, g, e *[9]float64, diffs *watson9CGCentralDifferences) {
-	noise := watson9CGCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h := diffs.ratio[i] * watson9CGCentralLarger(1, watson9CGCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	watson9CGCentralVerifyNothing = iota
+	watson9CGCentralVerifyPass    // a difference gradient passed the test
+	watson9CGCentralVerifyStall   // no step makes progress
+)
 
-// watson9CGCentralGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func watson9CGCentralGradientMeasure(g, e, x *[9]float64, fx float64) (measure, floor float64) {
-	scale := watson9CGCentralLarger(watson9CGCentralAbs(fx), 1)
-	for i := range g {
-		w := watson9CGCentralLarger(watson9CGCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = watson9CGCentralLarger(measure, (watson9CGCentralAbs(g[i])+e[i])*w)
-		floor = watson9CGCentralLarger(floor, e[i]*w)
+// watson9CGCentralSettle prepares a verdict at x: with differences it confirms the
+// gradient (watson9CGCentralConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (watson9CGCentralRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func watson9CGCentralSettle(x *[9]float64, fx float64, g, e *[9]float64, diffs *watson9CGCentralDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if watson9CGCentralDerivativeCost > 0 {
+		spent, ok := watson9CGCentralConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
+	if stall {
+		watson9CGCentralRoundingFloor(x, g, e, diffs)
+	}
+	return calls, true
 }
 
 // watson9CGCentralConfirmGradient recomputes a difference gradient at x before the run is
@@ -678,33 +659,16 @@ func watson9CGCentralConfirmGradient(x *[9]float64, fx float64, g, e *[9]float64
 	return calls + 2*watson9CGCentralDerivativeCost, true
 }
 
-// watson9CGCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func watson9CGCentralStepWithin(s, x *[9]float64, tol float64) bool {
-	for i := range s {
-		if !(watson9CGCentralAbs(s[i]) <= tol*(watson9CGCentralAbs(x[i])+1)) {
-			return false
-		}
+// watson9CGCentralGradientError bounds each central difference's error by twice its
+// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
+// in forwardError).
+func watson9CGCentralGradientError(x *[9]float64, fx float64, g, e *[9]float64, diffs *watson9CGCentralDifferences) {
+	noise := watson9CGCentralNoiseLevel(x, fx, g)
+	for i := range e {
+		h := diffs.ratio[i] * watson9CGCentralLarger(1, watson9CGCentralAbs(x[i]))
+		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
 	}
-	return true
-}
-
-// watson9CGCentralSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (watson9CGCentralConfirmGradient), then it adds to each error
-// bound the rounding floor of x (watson9CGCentralRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func watson9CGCentralSettle(x *[9]float64, fx float64, g, e *[9]float64, diffs *watson9CGCentralDifferences, budget int) (int, bool) {
-	calls := 0
-	if watson9CGCentralDerivativeCost > 0 {
-		spent, ok := watson9CGCentralConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
-	}
-	watson9CGCentralRoundingFloor(x, g, e, diffs)
-	return calls, true
 }
 
 // watson9CGCentralRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -725,6 +689,39 @@ func watson9CGCentralRoundingFloor(x, g, e *[9]float64, diffs *watson9CGCentralD
 // calibration, which watson9CGCentralConfirmGradient has just made at x.
 func watson9CGCentralDiagonalCurvature(x, g *[9]float64, diffs *watson9CGCentralDifferences, h *[9]float64) {
 	*h = diffs.second
+}
+
+// watson9CGCentralGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func watson9CGCentralGradientMeasure(g, e, x *[9]float64, fx float64) (measure, floor float64) {
+	scale := watson9CGCentralLarger(watson9CGCentralAbs(fx), 1)
+	for i := range g {
+		w := watson9CGCentralLarger(watson9CGCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = watson9CGCentralLarger(measure, (watson9CGCentralAbs(g[i])+e[i])*w)
+		floor = watson9CGCentralLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// watson9CGCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func watson9CGCentralStepWithin(s, x *[9]float64, tol float64) bool {
+	for i := range s {
+		if !(watson9CGCentralAbs(s[i]) <= tol*(watson9CGCentralAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // watson9CGCentralTinyStep returns the longest t for which the step t·d from x passes the

@@ -191,11 +191,25 @@ func watson9LBFGSAnalyticMinimize(x0 [9]float64, lim Watson9LBFGSAnalyticLimits)
 	t, slope := float64(watson9LBFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                      // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                            // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                               // whether g and e at x come from watson9LBFGSAnalyticConfirmGradient
+	confirmed := false                                               // whether g and e at x come from watson9LBFGSAnalyticConfirmGradient or settle
 	stalled := false                                                 // whether the run can make no more progress at x
 	retried := -1                                                    // the iteration whose stall was retried with recalibrated differences
+	verify := watson9LBFGSAnalyticVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != watson9LBFGSAnalyticVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see watson9LBFGSAnalyticConfirmGradient and settle).
+			calls, ok := watson9LBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, verify == watson9LBFGSAnalyticVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(Watson9LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !watson9LBFGSAnalyticFiniteVec(&g) {
+				return best.ending(Watson9LBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = watson9LBFGSAnalyticVerifyNothing, true
+		case !confirmed:
 			watson9LBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := watson9LBFGSAnalyticGradientMeasure(&g, &e, &x, fx)
@@ -213,17 +227,7 @@ func watson9LBFGSAnalyticMinimize(x0 [9]float64, lim Watson9LBFGSAnalyticLimits)
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := watson9LBFGSAnalyticConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(Watson9LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !watson9LBFGSAnalyticFiniteVec(&g) {
-				return best.ending(Watson9LBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = watson9LBFGSAnalyticVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -241,15 +245,7 @@ func watson9LBFGSAnalyticMinimize(x0 [9]float64, lim Watson9LBFGSAnalyticLimits)
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if watson9LBFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				calls, ok := watson9LBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(Watson9LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !watson9LBFGSAnalyticFiniteVec(&g) {
-					return best.ending(Watson9LBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = watson9LBFGSAnalyticVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -290,15 +286,7 @@ func watson9LBFGSAnalyticMinimize(x0 [9]float64, lim Watson9LBFGSAnalyticLimits)
 			case found.rising:
 				end = Watson9LBFGSAnalyticNoDecrease
 			case found.end == watson9LBFGSAnalyticSearchTiny && canSettle:
-				calls, ok := watson9LBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(Watson9LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !watson9LBFGSAnalyticFiniteVec(&g) {
-					return best.ending(Watson9LBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = watson9LBFGSAnalyticVerifyStall, true
 				continue
 			case found.end == watson9LBFGSAnalyticSearchTiny:
 				end = Watson9LBFGSAnalyticStalled
@@ -516,51 +504,30 @@ func watson9LBFGSAnalyticCurvatureSafe(s, y *[9]float64) bool {
 	return sy > 0 && (sy/watson9LBFGSAnalyticDot(s, s))*(sy/watson9LBFGSAnalyticDot(y, y)) > watson9LBFGSAnalyticUnitRoundoff
 }
 
-// watson9LBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func watson9LBFGSAnalyticGradientError(x *[9]float64, fx float64, g, e *[9]float64, diffs *watson9LBFGSAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	watson9LBFGSAnalyticVerifyNothing = iota
+	watson9LBFGSAnalyticVerifyPass    // a difference gradient passed the test
+	watson9LBFGSAnalyticVerifyStall   // no step makes progress
+)
 
-// watson9LBFGSAnalyticGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func watson9LBFGSAnalyticGradientMeasure(g, e, x *[9]float64, fx float64) (measure, floor float64) {
-	scale := watson9LBFGSAnalyticLarger(watson9LBFGSAnalyticAbs(fx), 1)
-	for i := range g {
-		w := watson9LBFGSAnalyticLarger(watson9LBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = watson9LBFGSAnalyticLarger(measure, (watson9LBFGSAnalyticAbs(g[i])+e[i])*w)
-		floor = watson9LBFGSAnalyticLarger(floor, e[i]*w)
+// watson9LBFGSAnalyticSettle prepares a verdict at x: with differences it confirms the
+// gradient (watson9LBFGSAnalyticConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (watson9LBFGSAnalyticRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func watson9LBFGSAnalyticSettle(x *[9]float64, fx float64, g, e *[9]float64, diffs *watson9LBFGSAnalyticDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if watson9LBFGSAnalyticDerivativeCost > 0 {
+		spent, ok := watson9LBFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// watson9LBFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func watson9LBFGSAnalyticLarger(a, b float64) float64 {
-	if a > b || a != a {
-		return a
+	if stall {
+		watson9LBFGSAnalyticRoundingFloor(x, g, e, diffs)
 	}
-	return b
-}
-
-// watson9LBFGSAnalyticAbs returns |v|.
-func watson9LBFGSAnalyticAbs(v float64) float64 {
-	if v < 0 {
-		return -v
-	}
-	return v
+	return calls, true
 }
 
 // watson9LBFGSAnalyticConfirmGradient recomputes a difference gradient at x before the run is
@@ -593,33 +560,20 @@ func watson9LBFGSAnalyticConfirmGradient(x *[9]float64, fx float64, g, e *[9]flo
 	return calls + 2*watson9LBFGSAnalyticDerivativeCost, true
 }
 
-// watson9LBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func watson9LBFGSAnalyticStepWithin(s, x *[9]float64, tol float64) bool {
-	for i := range s {
-		if !(watson9LBFGSAnalyticAbs(s[i]) <= tol*(watson9LBFGSAnalyticAbs(x[i])+1)) {
-			return false
-		}
+// watson9LBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func watson9LBFGSAnalyticGradientError(x *[9]float64, fx float64, g, e *[9]float64, diffs *watson9LBFGSAnalyticDifferences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// watson9LBFGSAnalyticSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (watson9LBFGSAnalyticConfirmGradient), then it adds to each error
-// bound the rounding floor of x (watson9LBFGSAnalyticRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func watson9LBFGSAnalyticSettle(x *[9]float64, fx float64, g, e *[9]float64, diffs *watson9LBFGSAnalyticDifferences, budget int) (int, bool) {
-	calls := 0
-	if watson9LBFGSAnalyticDerivativeCost > 0 {
-		spent, ok := watson9LBFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// watson9LBFGSAnalyticAbs returns |v|.
+func watson9LBFGSAnalyticAbs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	watson9LBFGSAnalyticRoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // watson9LBFGSAnalyticRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -662,6 +616,49 @@ func watson9LBFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
 // watson9LBFGSAnalyticSquareRoot returns √v.
 func watson9LBFGSAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// watson9LBFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func watson9LBFGSAnalyticLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// watson9LBFGSAnalyticGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func watson9LBFGSAnalyticGradientMeasure(g, e, x *[9]float64, fx float64) (measure, floor float64) {
+	scale := watson9LBFGSAnalyticLarger(watson9LBFGSAnalyticAbs(fx), 1)
+	for i := range g {
+		w := watson9LBFGSAnalyticLarger(watson9LBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = watson9LBFGSAnalyticLarger(measure, (watson9LBFGSAnalyticAbs(g[i])+e[i])*w)
+		floor = watson9LBFGSAnalyticLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// watson9LBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func watson9LBFGSAnalyticStepWithin(s, x *[9]float64, tol float64) bool {
+	for i := range s {
+		if !(watson9LBFGSAnalyticAbs(s[i]) <= tol*(watson9LBFGSAnalyticAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // watson9LBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the

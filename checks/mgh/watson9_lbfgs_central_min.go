@@ -191,11 +191,25 @@ func watson9LBFGSCentralMinimize(x0 [9]float64, lim Watson9LBFGSCentralLimits) w
 	t, slope := float64(watson9LBFGSCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                     // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                           // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                              // whether g and e at x come from watson9LBFGSCentralConfirmGradient
+	confirmed := false                                              // whether g and e at x come from watson9LBFGSCentralConfirmGradient or settle
 	stalled := false                                                // whether the run can make no more progress at x
 	retried := -1                                                   // the iteration whose stall was retried with recalibrated differences
+	verify := watson9LBFGSCentralVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != watson9LBFGSCentralVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see watson9LBFGSCentralConfirmGradient and settle).
+			calls, ok := watson9LBFGSCentralSettle(&x, fx, &g, &e, &diffs, verify == watson9LBFGSCentralVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(Watson9LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !watson9LBFGSCentralFiniteVec(&g) {
+				return best.ending(Watson9LBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = watson9LBFGSCentralVerifyNothing, true
+		case !confirmed:
 			watson9LBFGSCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := watson9LBFGSCentralGradientMeasure(&g, &e, &x, fx)
@@ -213,17 +227,7 @@ func watson9LBFGSCentralMinimize(x0 [9]float64, lim Watson9LBFGSCentralLimits) w
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := watson9LBFGSCentralConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(Watson9LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !watson9LBFGSCentralFiniteVec(&g) {
-				return best.ending(Watson9LBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = watson9LBFGSCentralVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -241,15 +245,7 @@ func watson9LBFGSCentralMinimize(x0 [9]float64, lim Watson9LBFGSCentralLimits) w
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if watson9LBFGSCentralStepWithin(&s, &x, lim.Step) {
-				calls, ok := watson9LBFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(Watson9LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !watson9LBFGSCentralFiniteVec(&g) {
-					return best.ending(Watson9LBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = watson9LBFGSCentralVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -290,15 +286,7 @@ func watson9LBFGSCentralMinimize(x0 [9]float64, lim Watson9LBFGSCentralLimits) w
 			case found.rising:
 				end = Watson9LBFGSCentralNoDecrease
 			case found.end == watson9LBFGSCentralSearchTiny && canSettle:
-				calls, ok := watson9LBFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(Watson9LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !watson9LBFGSCentralFiniteVec(&g) {
-					return best.ending(Watson9LBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = watson9LBFGSCentralVerifyStall, true
 				continue
 			case found.end == watson9LBFGSCentralSearchTiny:
 				end = Watson9LBFGSCentralStalled
@@ -659,37 +647,30 @@ func watson9LBFGSCentralCurvatureSafe(s, y *[9]float64) bool {
 	return sy > 0 && (sy/watson9LBFGSCentralDot(s, s))*(sy/watson9LBFGSCentralDot(y, y)) > watson9LBFGSCentralUnitRoundoff
 }
 
-// watson9LBFGSCentralGradientError bounds each central difference's error by twice its
-// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
-// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
-// in forwardError).
-func watson9LBFGSCentralGradientError(x *[9]float64, fx float64, g, e *[9]float64, diffs *watson9LBFGSCentralDifferences) {
-	noise := watson9LBFGSCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h := diffs.ratio[i] * watson9LBFGSCentralLarger(1, watson9LBFGSCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	watson9LBFGSCentralVerifyNothing = iota
+	watson9LBFGSCentralVerifyPass    // a difference gradient passed the test
+	watson9LBFGSCentralVerifyStall   // no step makes progress
+)
 
-// watson9LBFGSCentralGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func watson9LBFGSCentralGradientMeasure(g, e, x *[9]float64, fx float64) (measure, floor float64) {
-	scale := watson9LBFGSCentralLarger(watson9LBFGSCentralAbs(fx), 1)
-	for i := range g {
-		w := watson9LBFGSCentralLarger(watson9LBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = watson9LBFGSCentralLarger(measure, (watson9LBFGSCentralAbs(g[i])+e[i])*w)
-		floor = watson9LBFGSCentralLarger(floor, e[i]*w)
+// watson9LBFGSCentralSettle prepares a verdict at x: with differences it confirms the
+// gradient (watson9LBFGSCentralConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (watson9LBFGSCentralRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func watson9LBFGSCentralSettle(x *[9]float64, fx float64, g, e *[9]float64, diffs *watson9LBFGSCentralDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if watson9LBFGSCentralDerivativeCost > 0 {
+		spent, ok := watson9LBFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
+	if stall {
+		watson9LBFGSCentralRoundingFloor(x, g, e, diffs)
+	}
+	return calls, true
 }
 
 // watson9LBFGSCentralConfirmGradient recomputes a difference gradient at x before the run is
@@ -722,33 +703,16 @@ func watson9LBFGSCentralConfirmGradient(x *[9]float64, fx float64, g, e *[9]floa
 	return calls + 2*watson9LBFGSCentralDerivativeCost, true
 }
 
-// watson9LBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func watson9LBFGSCentralStepWithin(s, x *[9]float64, tol float64) bool {
-	for i := range s {
-		if !(watson9LBFGSCentralAbs(s[i]) <= tol*(watson9LBFGSCentralAbs(x[i])+1)) {
-			return false
-		}
+// watson9LBFGSCentralGradientError bounds each central difference's error by twice its
+// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
+// in forwardError).
+func watson9LBFGSCentralGradientError(x *[9]float64, fx float64, g, e *[9]float64, diffs *watson9LBFGSCentralDifferences) {
+	noise := watson9LBFGSCentralNoiseLevel(x, fx, g)
+	for i := range e {
+		h := diffs.ratio[i] * watson9LBFGSCentralLarger(1, watson9LBFGSCentralAbs(x[i]))
+		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
 	}
-	return true
-}
-
-// watson9LBFGSCentralSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (watson9LBFGSCentralConfirmGradient), then it adds to each error
-// bound the rounding floor of x (watson9LBFGSCentralRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func watson9LBFGSCentralSettle(x *[9]float64, fx float64, g, e *[9]float64, diffs *watson9LBFGSCentralDifferences, budget int) (int, bool) {
-	calls := 0
-	if watson9LBFGSCentralDerivativeCost > 0 {
-		spent, ok := watson9LBFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
-	}
-	watson9LBFGSCentralRoundingFloor(x, g, e, diffs)
-	return calls, true
 }
 
 // watson9LBFGSCentralRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -769,6 +733,39 @@ func watson9LBFGSCentralRoundingFloor(x, g, e *[9]float64, diffs *watson9LBFGSCe
 // calibration, which watson9LBFGSCentralConfirmGradient has just made at x.
 func watson9LBFGSCentralDiagonalCurvature(x, g *[9]float64, diffs *watson9LBFGSCentralDifferences, h *[9]float64) {
 	*h = diffs.second
+}
+
+// watson9LBFGSCentralGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func watson9LBFGSCentralGradientMeasure(g, e, x *[9]float64, fx float64) (measure, floor float64) {
+	scale := watson9LBFGSCentralLarger(watson9LBFGSCentralAbs(fx), 1)
+	for i := range g {
+		w := watson9LBFGSCentralLarger(watson9LBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = watson9LBFGSCentralLarger(measure, (watson9LBFGSCentralAbs(g[i])+e[i])*w)
+		floor = watson9LBFGSCentralLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// watson9LBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func watson9LBFGSCentralStepWithin(s, x *[9]float64, tol float64) bool {
+	for i := range s {
+		if !(watson9LBFGSCentralAbs(s[i]) <= tol*(watson9LBFGSCentralAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // watson9LBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the

@@ -190,11 +190,25 @@ func woodBFGSAnalyticMinimize(x0 [4]float64, lim WoodBFGSAnalyticLimits) woodBFG
 	t, slope := float64(woodBFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                  // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                        // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                           // whether g and e at x come from woodBFGSAnalyticConfirmGradient
+	confirmed := false                                           // whether g and e at x come from woodBFGSAnalyticConfirmGradient or settle
 	stalled := false                                             // whether the run can make no more progress at x
 	retried := -1                                                // the iteration whose stall was retried with recalibrated differences
+	verify := woodBFGSAnalyticVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != woodBFGSAnalyticVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see woodBFGSAnalyticConfirmGradient and settle).
+			calls, ok := woodBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, verify == woodBFGSAnalyticVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(WoodBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !woodBFGSAnalyticFiniteVec(&g) {
+				return best.ending(WoodBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = woodBFGSAnalyticVerifyNothing, true
+		case !confirmed:
 			woodBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := woodBFGSAnalyticGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func woodBFGSAnalyticMinimize(x0 [4]float64, lim WoodBFGSAnalyticLimits) woodBFG
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := woodBFGSAnalyticConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(WoodBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !woodBFGSAnalyticFiniteVec(&g) {
-				return best.ending(WoodBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = woodBFGSAnalyticVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func woodBFGSAnalyticMinimize(x0 [4]float64, lim WoodBFGSAnalyticLimits) woodBFG
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if woodBFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				calls, ok := woodBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(WoodBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !woodBFGSAnalyticFiniteVec(&g) {
-					return best.ending(WoodBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = woodBFGSAnalyticVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func woodBFGSAnalyticMinimize(x0 [4]float64, lim WoodBFGSAnalyticLimits) woodBFG
 			case found.rising:
 				end = WoodBFGSAnalyticNoDecrease
 			case found.end == woodBFGSAnalyticSearchTiny && canSettle:
-				calls, ok := woodBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(WoodBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !woodBFGSAnalyticFiniteVec(&g) {
-					return best.ending(WoodBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = woodBFGSAnalyticVerifyStall, true
 				continue
 			case found.end == woodBFGSAnalyticSearchTiny:
 				end = WoodBFGSAnalyticStalled
@@ -490,51 +478,30 @@ func woodBFGSAnalyticCurvatureSafe(s, y *[4]float64) bool {
 	return sy > 0 && (sy/woodBFGSAnalyticDot(s, s))*(sy/woodBFGSAnalyticDot(y, y)) > woodBFGSAnalyticUnitRoundoff
 }
 
-// woodBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func woodBFGSAnalyticGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *woodBFGSAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	woodBFGSAnalyticVerifyNothing = iota
+	woodBFGSAnalyticVerifyPass    // a difference gradient passed the test
+	woodBFGSAnalyticVerifyStall   // no step makes progress
+)
 
-// woodBFGSAnalyticGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func woodBFGSAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
-	scale := woodBFGSAnalyticLarger(woodBFGSAnalyticAbs(fx), 1)
-	for i := range g {
-		w := woodBFGSAnalyticLarger(woodBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = woodBFGSAnalyticLarger(measure, (woodBFGSAnalyticAbs(g[i])+e[i])*w)
-		floor = woodBFGSAnalyticLarger(floor, e[i]*w)
+// woodBFGSAnalyticSettle prepares a verdict at x: with differences it confirms the
+// gradient (woodBFGSAnalyticConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (woodBFGSAnalyticRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func woodBFGSAnalyticSettle(x *[4]float64, fx float64, g, e *[4]float64, diffs *woodBFGSAnalyticDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if woodBFGSAnalyticDerivativeCost > 0 {
+		spent, ok := woodBFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// woodBFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func woodBFGSAnalyticLarger(a, b float64) float64 {
-	if a > b || a != a {
-		return a
+	if stall {
+		woodBFGSAnalyticRoundingFloor(x, g, e, diffs)
 	}
-	return b
-}
-
-// woodBFGSAnalyticAbs returns |v|.
-func woodBFGSAnalyticAbs(v float64) float64 {
-	if v < 0 {
-		return -v
-	}
-	return v
+	return calls, true
 }
 
 // woodBFGSAnalyticConfirmGradient recomputes a difference gradient at x before the run is
@@ -567,33 +534,20 @@ func woodBFGSAnalyticConfirmGradient(x *[4]float64, fx float64, g, e *[4]float64
 	return calls + 2*woodBFGSAnalyticDerivativeCost, true
 }
 
-// woodBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func woodBFGSAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
-	for i := range s {
-		if !(woodBFGSAnalyticAbs(s[i]) <= tol*(woodBFGSAnalyticAbs(x[i])+1)) {
-			return false
-		}
+// woodBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func woodBFGSAnalyticGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *woodBFGSAnalyticDifferences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// woodBFGSAnalyticSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (woodBFGSAnalyticConfirmGradient), then it adds to each error
-// bound the rounding floor of x (woodBFGSAnalyticRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func woodBFGSAnalyticSettle(x *[4]float64, fx float64, g, e *[4]float64, diffs *woodBFGSAnalyticDifferences, budget int) (int, bool) {
-	calls := 0
-	if woodBFGSAnalyticDerivativeCost > 0 {
-		spent, ok := woodBFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// woodBFGSAnalyticAbs returns |v|.
+func woodBFGSAnalyticAbs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	woodBFGSAnalyticRoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // woodBFGSAnalyticRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -636,6 +590,49 @@ func woodBFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
 // woodBFGSAnalyticSquareRoot returns √v.
 func woodBFGSAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// woodBFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func woodBFGSAnalyticLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// woodBFGSAnalyticGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func woodBFGSAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
+	scale := woodBFGSAnalyticLarger(woodBFGSAnalyticAbs(fx), 1)
+	for i := range g {
+		w := woodBFGSAnalyticLarger(woodBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = woodBFGSAnalyticLarger(measure, (woodBFGSAnalyticAbs(g[i])+e[i])*w)
+		floor = woodBFGSAnalyticLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// woodBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func woodBFGSAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
+	for i := range s {
+		if !(woodBFGSAnalyticAbs(s[i]) <= tol*(woodBFGSAnalyticAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // woodBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the

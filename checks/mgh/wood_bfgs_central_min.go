@@ -190,11 +190,25 @@ func woodBFGSCentralMinimize(x0 [4]float64, lim WoodBFGSCentralLimits) woodBFGSC
 	t, slope := float64(woodBFGSCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                 // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                       // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                          // whether g and e at x come from woodBFGSCentralConfirmGradient
+	confirmed := false                                          // whether g and e at x come from woodBFGSCentralConfirmGradient or settle
 	stalled := false                                            // whether the run can make no more progress at x
 	retried := -1                                               // the iteration whose stall was retried with recalibrated differences
+	verify := woodBFGSCentralVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != woodBFGSCentralVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see woodBFGSCentralConfirmGradient and settle).
+			calls, ok := woodBFGSCentralSettle(&x, fx, &g, &e, &diffs, verify == woodBFGSCentralVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(WoodBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !woodBFGSCentralFiniteVec(&g) {
+				return best.ending(WoodBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = woodBFGSCentralVerifyNothing, true
+		case !confirmed:
 			woodBFGSCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := woodBFGSCentralGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func woodBFGSCentralMinimize(x0 [4]float64, lim WoodBFGSCentralLimits) woodBFGSC
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := woodBFGSCentralConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(WoodBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !woodBFGSCentralFiniteVec(&g) {
-				return best.ending(WoodBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = woodBFGSCentralVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func woodBFGSCentralMinimize(x0 [4]float64, lim WoodBFGSCentralLimits) woodBFGSC
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if woodBFGSCentralStepWithin(&s, &x, lim.Step) {
-				calls, ok := woodBFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(WoodBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !woodBFGSCentralFiniteVec(&g) {
-					return best.ending(WoodBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = woodBFGSCentralVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func woodBFGSCentralMinimize(x0 [4]float64, lim WoodBFGSCentralLimits) woodBFGSC
 			case found.rising:
 				end = WoodBFGSCentralNoDecrease
 			case found.end == woodBFGSCentralSearchTiny && canSettle:
-				calls, ok := woodBFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(WoodBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !woodBFGSCentralFiniteVec(&g) {
-					return best.ending(WoodBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = woodBFGSCentralVerifyStall, true
 				continue
 			case found.end == woodBFGSCentralSearchTiny:
 				end = WoodBFGSCentralStalled
@@ -633,37 +621,30 @@ func woodBFGSCentralCurvatureSafe(s, y *[4]float64) bool {
 	return sy > 0 && (sy/woodBFGSCentralDot(s, s))*(sy/woodBFGSCentralDot(y, y)) > woodBFGSCentralUnitRoundoff
 }
 
-// woodBFGSCentralGradientError bounds each central difference's error by twice its
-// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
-// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
-// in forwardError).
-func woodBFGSCentralGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *woodBFGSCentralDifferences) {
-	noise := woodBFGSCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h := diffs.ratio[i] * woodBFGSCentralLarger(1, woodBFGSCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	woodBFGSCentralVerifyNothing = iota
+	woodBFGSCentralVerifyPass    // a difference gradient passed the test
+	woodBFGSCentralVerifyStall   // no step makes progress
+)
 
-// woodBFGSCentralGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func woodBFGSCentralGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
-	scale := woodBFGSCentralLarger(woodBFGSCentralAbs(fx), 1)
-	for i := range g {
-		w := woodBFGSCentralLarger(woodBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = woodBFGSCentralLarger(measure, (woodBFGSCentralAbs(g[i])+e[i])*w)
-		floor = woodBFGSCentralLarger(floor, e[i]*w)
+// woodBFGSCentralSettle prepares a verdict at x: with differences it confirms the
+// gradient (woodBFGSCentralConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (woodBFGSCentralRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func woodBFGSCentralSettle(x *[4]float64, fx float64, g, e *[4]float64, diffs *woodBFGSCentralDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if woodBFGSCentralDerivativeCost > 0 {
+		spent, ok := woodBFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
+	if stall {
+		woodBFGSCentralRoundingFloor(x, g, e, diffs)
+	}
+	return calls, true
 }
 
 // woodBFGSCentralConfirmGradient recomputes a difference gradient at x before the run is
@@ -696,33 +677,16 @@ func woodBFGSCentralConfirmGradient(x *[4]float64, fx float64, g, e *[4]float64,
 	return calls + 2*woodBFGSCentralDerivativeCost, true
 }
 
-// woodBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func woodBFGSCentralStepWithin(s, x *[4]float64, tol float64) bool {
-	for i := range s {
-		if !(woodBFGSCentralAbs(s[i]) <= tol*(woodBFGSCentralAbs(x[i])+1)) {
-			return false
-		}
+// woodBFGSCentralGradientError bounds each central difference's error by twice its
+// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
+// in forwardError).
+func woodBFGSCentralGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *woodBFGSCentralDifferences) {
+	noise := woodBFGSCentralNoiseLevel(x, fx, g)
+	for i := range e {
+		h := diffs.ratio[i] * woodBFGSCentralLarger(1, woodBFGSCentralAbs(x[i]))
+		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
 	}
-	return true
-}
-
-// woodBFGSCentralSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (woodBFGSCentralConfirmGradient), then it adds to each error
-// bound the rounding floor of x (woodBFGSCentralRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func woodBFGSCentralSettle(x *[4]float64, fx float64, g, e *[4]float64, diffs *woodBFGSCentralDifferences, budget int) (int, bool) {
-	calls := 0
-	if woodBFGSCentralDerivativeCost > 0 {
-		spent, ok := woodBFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
-	}
-	woodBFGSCentralRoundingFloor(x, g, e, diffs)
-	return calls, true
 }
 
 // woodBFGSCentralRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -743,6 +707,39 @@ func woodBFGSCentralRoundingFloor(x, g, e *[4]float64, diffs *woodBFGSCentralDif
 // calibration, which woodBFGSCentralConfirmGradient has just made at x.
 func woodBFGSCentralDiagonalCurvature(x, g *[4]float64, diffs *woodBFGSCentralDifferences, h *[4]float64) {
 	*h = diffs.second
+}
+
+// woodBFGSCentralGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func woodBFGSCentralGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
+	scale := woodBFGSCentralLarger(woodBFGSCentralAbs(fx), 1)
+	for i := range g {
+		w := woodBFGSCentralLarger(woodBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = woodBFGSCentralLarger(measure, (woodBFGSCentralAbs(g[i])+e[i])*w)
+		floor = woodBFGSCentralLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// woodBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func woodBFGSCentralStepWithin(s, x *[4]float64, tol float64) bool {
+	for i := range s {
+		if !(woodBFGSCentralAbs(s[i]) <= tol*(woodBFGSCentralAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // woodBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the

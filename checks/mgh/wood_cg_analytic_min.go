@@ -190,11 +190,25 @@ func woodCGAnalyticMinimize(x0 [4]float64, lim WoodCGAnalyticLimits) woodCGAnaly
 	t, slope := float64(woodCGAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                      // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                         // whether g and e at x come from woodCGAnalyticConfirmGradient
+	confirmed := false                                         // whether g and e at x come from woodCGAnalyticConfirmGradient or settle
 	stalled := false                                           // whether the run can make no more progress at x
 	retried := -1                                              // the iteration whose stall was retried with recalibrated differences
+	verify := woodCGAnalyticVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != woodCGAnalyticVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see woodCGAnalyticConfirmGradient and settle).
+			calls, ok := woodCGAnalyticSettle(&x, fx, &g, &e, &diffs, verify == woodCGAnalyticVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(WoodCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !woodCGAnalyticFiniteVec(&g) {
+				return best.ending(WoodCGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = woodCGAnalyticVerifyNothing, true
+		case !confirmed:
 			woodCGAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := woodCGAnalyticGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func woodCGAnalyticMinimize(x0 [4]float64, lim WoodCGAnalyticLimits) woodCGAnaly
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := woodCGAnalyticConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(WoodCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !woodCGAnalyticFiniteVec(&g) {
-				return best.ending(WoodCGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = woodCGAnalyticVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func woodCGAnalyticMinimize(x0 [4]float64, lim WoodCGAnalyticLimits) woodCGAnaly
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if woodCGAnalyticStepWithin(&s, &x, lim.Step) {
-				calls, ok := woodCGAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(WoodCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !woodCGAnalyticFiniteVec(&g) {
-					return best.ending(WoodCGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = woodCGAnalyticVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func woodCGAnalyticMinimize(x0 [4]float64, lim WoodCGAnalyticLimits) woodCGAnaly
 			case found.rising:
 				end = WoodCGAnalyticNoDecrease
 			case found.end == woodCGAnalyticSearchTiny && canSettle:
-				calls, ok := woodCGAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(WoodCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !woodCGAnalyticFiniteVec(&g) {
-					return best.ending(WoodCGAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = woodCGAnalyticVerifyStall, true
 				continue
 			case found.end == woodCGAnalyticSearchTiny:
 				end = WoodCGAnalyticStalled
@@ -482,41 +470,30 @@ func woodCGAnalyticScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
-// woodCGAnalyticGradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func woodCGAnalyticGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *woodCGAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	woodCGAnalyticVerifyNothing = iota
+	woodCGAnalyticVerifyPass    // a difference gradient passed the test
+	woodCGAnalyticVerifyStall   // no step makes progress
+)
 
-// woodCGAnalyticGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func woodCGAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
-	scale := woodCGAnalyticLarger(woodCGAnalyticAbs(fx), 1)
-	for i := range g {
-		w := woodCGAnalyticLarger(woodCGAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = woodCGAnalyticLarger(measure, (woodCGAnalyticAbs(g[i])+e[i])*w)
-		floor = woodCGAnalyticLarger(floor, e[i]*w)
+// woodCGAnalyticSettle prepares a verdict at x: with differences it confirms the
+// gradient (woodCGAnalyticConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (woodCGAnalyticRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func woodCGAnalyticSettle(x *[4]float64, fx float64, g, e *[4]float64, diffs *woodCGAnalyticDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if woodCGAnalyticDerivativeCost > 0 {
+		spent, ok := woodCGAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// woodCGAnalyticAbs returns |v|.
-func woodCGAnalyticAbs(v float64) float64 {
-	if v < 0 {
-		return -v
+	if stall {
+		woodCGAnalyticRoundingFloor(x, g, e, diffs)
 	}
-	return v
+	return calls, true
 }
 
 // woodCGAnalyticConfirmGradient recomputes a difference gradient at x before the run is
@@ -549,33 +526,20 @@ func woodCGAnalyticConfirmGradient(x *[4]float64, fx float64, g, e *[4]float64, 
 	return calls + 2*woodCGAnalyticDerivativeCost, true
 }
 
-// woodCGAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func woodCGAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
-	for i := range s {
-		if !(woodCGAnalyticAbs(s[i]) <= tol*(woodCGAnalyticAbs(x[i])+1)) {
-			return false
-		}
+// woodCGAnalyticGradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func woodCGAnalyticGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *woodCGAnalyticDifferences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// woodCGAnalyticSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (woodCGAnalyticConfirmGradient), then it adds to each error
-// bound the rounding floor of x (woodCGAnalyticRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func woodCGAnalyticSettle(x *[4]float64, fx float64, g, e *[4]float64, diffs *woodCGAnalyticDifferences, budget int) (int, bool) {
-	calls := 0
-	if woodCGAnalyticDerivativeCost > 0 {
-		spent, ok := woodCGAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// woodCGAnalyticAbs returns |v|.
+func woodCGAnalyticAbs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	woodCGAnalyticRoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // woodCGAnalyticRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -618,6 +582,39 @@ func woodCGAnalyticProbeStep(xi, h float64) (float64, float64) {
 // woodCGAnalyticSquareRoot returns √v.
 func woodCGAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// woodCGAnalyticGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func woodCGAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
+	scale := woodCGAnalyticLarger(woodCGAnalyticAbs(fx), 1)
+	for i := range g {
+		w := woodCGAnalyticLarger(woodCGAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = woodCGAnalyticLarger(measure, (woodCGAnalyticAbs(g[i])+e[i])*w)
+		floor = woodCGAnalyticLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// woodCGAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func woodCGAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
+	for i := range s {
+		if !(woodCGAnalyticAbs(s[i]) <= tol*(woodCGAnalyticAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // woodCGAnalyticTinyStep returns the longest t for which the step t·d from x passes the

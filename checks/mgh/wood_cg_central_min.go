@@ -190,11 +190,25 @@ func woodCGCentralMinimize(x0 [4]float64, lim WoodCGCentralLimits) woodCGCentral
 	t, slope := float64(woodCGCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                               // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                     // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                        // whether g and e at x come from woodCGCentralConfirmGradient
+	confirmed := false                                        // whether g and e at x come from woodCGCentralConfirmGradient or settle
 	stalled := false                                          // whether the run can make no more progress at x
 	retried := -1                                             // the iteration whose stall was retried with recalibrated differences
+	verify := woodCGCentralVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != woodCGCentralVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see woodCGCentralConfirmGradient and settle).
+			calls, ok := woodCGCentralSettle(&x, fx, &g, &e, &diffs, verify == woodCGCentralVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(WoodCGCentralOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !woodCGCentralFiniteVec(&g) {
+				return best.ending(WoodCGCentralNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = woodCGCentralVerifyNothing, true
+		case !confirmed:
 			woodCGCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := woodCGCentralGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func woodCGCentralMinimize(x0 [4]float64, lim WoodCGCentralLimits) woodCGCentral
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := woodCGCentralConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(WoodCGCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !woodCGCentralFiniteVec(&g) {
-				return best.ending(WoodCGCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = woodCGCentralVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func woodCGCentralMinimize(x0 [4]float64, lim WoodCGCentralLimits) woodCGCentral
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if woodCGCentralStepWithin(&s, &x, lim.Step) {
-				calls, ok := woodCGCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(WoodCGCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !woodCGCentralFiniteVec(&g) {
-					return best.ending(WoodCGCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = woodCGCentralVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func woodCGCentralMinimize(x0 [4]float64, lim WoodCGCentralLimits) woodCGCentral
 			case found.rising:
 				end = WoodCGCentralNoDecrease
 			case found.end == woodCGCentralSearchTiny && canSettle:
-				calls, ok := woodCGCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(WoodCGCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !woodCGCentralFiniteVec(&g) {
-					return best.ending(WoodCGCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = woodCGCentralVerifyStall, true
 				continue
 			case found.end == woodCGCentralSearchTiny:
 				end = WoodCGCentralStalled
@@ -615,37 +603,30 @@ func woodCGCentralScaledTrial(t, slope, now float64) float64 {
 	return next
 }
 
-// woodCGCentralGradientError bounds each central difference's error by twice its
-// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
-// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
-// in forwardError).
-func woodCGCentralGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *woodCGCentralDifferences) {
-	noise := woodCGCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h := diffs.ratio[i] * woodCGCentralLarger(1, woodCGCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	woodCGCentralVerifyNothing = iota
+	woodCGCentralVerifyPass    // a difference gradient passed the test
+	woodCGCentralVerifyStall   // no step makes progress
+)
 
-// woodCGCentralGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func woodCGCentralGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
-	scale := woodCGCentralLarger(woodCGCentralAbs(fx), 1)
-	for i := range g {
-		w := woodCGCentralLarger(woodCGCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = woodCGCentralLarger(measure, (woodCGCentralAbs(g[i])+e[i])*w)
-		floor = woodCGCentralLarger(floor, e[i]*w)
+// woodCGCentralSettle prepares a verdict at x: with differences it confirms the
+// gradient (woodCGCentralConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (woodCGCentralRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func woodCGCentralSettle(x *[4]float64, fx float64, g, e *[4]float64, diffs *woodCGCentralDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if woodCGCentralDerivativeCost > 0 {
+		spent, ok := woodCGCentralConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
+	if stall {
+		woodCGCentralRoundingFloor(x, g, e, diffs)
+	}
+	return calls, true
 }
 
 // woodCGCentralConfirmGradient recomputes a difference gradient at x before the run is
@@ -678,33 +659,16 @@ func woodCGCentralConfirmGradient(x *[4]float64, fx float64, g, e *[4]float64, d
 	return calls + 2*woodCGCentralDerivativeCost, true
 }
 
-// woodCGCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func woodCGCentralStepWithin(s, x *[4]float64, tol float64) bool {
-	for i := range s {
-		if !(woodCGCentralAbs(s[i]) <= tol*(woodCGCentralAbs(x[i])+1)) {
-			return false
-		}
+// woodCGCentralGradientError bounds each central difference's error by twice its
+// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
+// in forwardError).
+func woodCGCentralGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *woodCGCentralDifferences) {
+	noise := woodCGCentralNoiseLevel(x, fx, g)
+	for i := range e {
+		h := diffs.ratio[i] * woodCGCentralLarger(1, woodCGCentralAbs(x[i]))
+		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
 	}
-	return true
-}
-
-// woodCGCentralSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (woodCGCentralConfirmGradient), then it adds to each error
-// bound the rounding floor of x (woodCGCentralRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func woodCGCentralSettle(x *[4]float64, fx float64, g, e *[4]float64, diffs *woodCGCentralDifferences, budget int) (int, bool) {
-	calls := 0
-	if woodCGCentralDerivativeCost > 0 {
-		spent, ok := woodCGCentralConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
-	}
-	woodCGCentralRoundingFloor(x, g, e, diffs)
-	return calls, true
 }
 
 // woodCGCentralRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -725,6 +689,39 @@ func woodCGCentralRoundingFloor(x, g, e *[4]float64, diffs *woodCGCentralDiffere
 // calibration, which woodCGCentralConfirmGradient has just made at x.
 func woodCGCentralDiagonalCurvature(x, g *[4]float64, diffs *woodCGCentralDifferences, h *[4]float64) {
 	*h = diffs.second
+}
+
+// woodCGCentralGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func woodCGCentralGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
+	scale := woodCGCentralLarger(woodCGCentralAbs(fx), 1)
+	for i := range g {
+		w := woodCGCentralLarger(woodCGCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = woodCGCentralLarger(measure, (woodCGCentralAbs(g[i])+e[i])*w)
+		floor = woodCGCentralLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// woodCGCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func woodCGCentralStepWithin(s, x *[4]float64, tol float64) bool {
+	for i := range s {
+		if !(woodCGCentralAbs(s[i]) <= tol*(woodCGCentralAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // woodCGCentralTinyStep returns the longest t for which the step t·d from x passes the

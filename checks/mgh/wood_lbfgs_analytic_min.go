@@ -191,11 +191,25 @@ func woodLBFGSAnalyticMinimize(x0 [4]float64, lim WoodLBFGSAnalyticLimits) woodL
 	t, slope := float64(woodLBFGSAnalyticStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                   // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                         // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                            // whether g and e at x come from woodLBFGSAnalyticConfirmGradient
+	confirmed := false                                            // whether g and e at x come from woodLBFGSAnalyticConfirmGradient or settle
 	stalled := false                                              // whether the run can make no more progress at x
 	retried := -1                                                 // the iteration whose stall was retried with recalibrated differences
+	verify := woodLBFGSAnalyticVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != woodLBFGSAnalyticVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see woodLBFGSAnalyticConfirmGradient and settle).
+			calls, ok := woodLBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, verify == woodLBFGSAnalyticVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(WoodLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !woodLBFGSAnalyticFiniteVec(&g) {
+				return best.ending(WoodLBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = woodLBFGSAnalyticVerifyNothing, true
+		case !confirmed:
 			woodLBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := woodLBFGSAnalyticGradientMeasure(&g, &e, &x, fx)
@@ -213,17 +227,7 @@ func woodLBFGSAnalyticMinimize(x0 [4]float64, lim WoodLBFGSAnalyticLimits) woodL
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := woodLBFGSAnalyticConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(WoodLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !woodLBFGSAnalyticFiniteVec(&g) {
-				return best.ending(WoodLBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = woodLBFGSAnalyticVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -241,15 +245,7 @@ func woodLBFGSAnalyticMinimize(x0 [4]float64, lim WoodLBFGSAnalyticLimits) woodL
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if woodLBFGSAnalyticStepWithin(&s, &x, lim.Step) {
-				calls, ok := woodLBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(WoodLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !woodLBFGSAnalyticFiniteVec(&g) {
-					return best.ending(WoodLBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = woodLBFGSAnalyticVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -290,15 +286,7 @@ func woodLBFGSAnalyticMinimize(x0 [4]float64, lim WoodLBFGSAnalyticLimits) woodL
 			case found.rising:
 				end = WoodLBFGSAnalyticNoDecrease
 			case found.end == woodLBFGSAnalyticSearchTiny && canSettle:
-				calls, ok := woodLBFGSAnalyticSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(WoodLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !woodLBFGSAnalyticFiniteVec(&g) {
-					return best.ending(WoodLBFGSAnalyticNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = woodLBFGSAnalyticVerifyStall, true
 				continue
 			case found.end == woodLBFGSAnalyticSearchTiny:
 				end = WoodLBFGSAnalyticStalled
@@ -516,51 +504,30 @@ func woodLBFGSAnalyticCurvatureSafe(s, y *[4]float64) bool {
 	return sy > 0 && (sy/woodLBFGSAnalyticDot(s, s))*(sy/woodLBFGSAnalyticDot(y, y)) > woodLBFGSAnalyticUnitRoundoff
 }
 
-// woodLBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func woodLBFGSAnalyticGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *woodLBFGSAnalyticDifferences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	woodLBFGSAnalyticVerifyNothing = iota
+	woodLBFGSAnalyticVerifyPass    // a difference gradient passed the test
+	woodLBFGSAnalyticVerifyStall   // no step makes progress
+)
 
-// woodLBFGSAnalyticGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func woodLBFGSAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
-	scale := woodLBFGSAnalyticLarger(woodLBFGSAnalyticAbs(fx), 1)
-	for i := range g {
-		w := woodLBFGSAnalyticLarger(woodLBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = woodLBFGSAnalyticLarger(measure, (woodLBFGSAnalyticAbs(g[i])+e[i])*w)
-		floor = woodLBFGSAnalyticLarger(floor, e[i]*w)
+// woodLBFGSAnalyticSettle prepares a verdict at x: with differences it confirms the
+// gradient (woodLBFGSAnalyticConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (woodLBFGSAnalyticRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func woodLBFGSAnalyticSettle(x *[4]float64, fx float64, g, e *[4]float64, diffs *woodLBFGSAnalyticDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if woodLBFGSAnalyticDerivativeCost > 0 {
+		spent, ok := woodLBFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// woodLBFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func woodLBFGSAnalyticLarger(a, b float64) float64 {
-	if a > b || a != a {
-		return a
+	if stall {
+		woodLBFGSAnalyticRoundingFloor(x, g, e, diffs)
 	}
-	return b
-}
-
-// woodLBFGSAnalyticAbs returns |v|.
-func woodLBFGSAnalyticAbs(v float64) float64 {
-	if v < 0 {
-		return -v
-	}
-	return v
+	return calls, true
 }
 
 // woodLBFGSAnalyticConfirmGradient recomputes a difference gradient at x before the run is
@@ -593,33 +560,20 @@ func woodLBFGSAnalyticConfirmGradient(x *[4]float64, fx float64, g, e *[4]float6
 	return calls + 2*woodLBFGSAnalyticDerivativeCost, true
 }
 
-// woodLBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func woodLBFGSAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
-	for i := range s {
-		if !(woodLBFGSAnalyticAbs(s[i]) <= tol*(woodLBFGSAnalyticAbs(x[i])+1)) {
-			return false
-		}
+// woodLBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func woodLBFGSAnalyticGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *woodLBFGSAnalyticDifferences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// woodLBFGSAnalyticSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (woodLBFGSAnalyticConfirmGradient), then it adds to each error
-// bound the rounding floor of x (woodLBFGSAnalyticRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func woodLBFGSAnalyticSettle(x *[4]float64, fx float64, g, e *[4]float64, diffs *woodLBFGSAnalyticDifferences, budget int) (int, bool) {
-	calls := 0
-	if woodLBFGSAnalyticDerivativeCost > 0 {
-		spent, ok := woodLBFGSAnalyticConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// woodLBFGSAnalyticAbs returns |v|.
+func woodLBFGSAnalyticAbs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	woodLBFGSAnalyticRoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // woodLBFGSAnalyticRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -662,6 +616,49 @@ func woodLBFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
 // woodLBFGSAnalyticSquareRoot returns √v.
 func woodLBFGSAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// woodLBFGSAnalyticLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func woodLBFGSAnalyticLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// woodLBFGSAnalyticGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func woodLBFGSAnalyticGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
+	scale := woodLBFGSAnalyticLarger(woodLBFGSAnalyticAbs(fx), 1)
+	for i := range g {
+		w := woodLBFGSAnalyticLarger(woodLBFGSAnalyticAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = woodLBFGSAnalyticLarger(measure, (woodLBFGSAnalyticAbs(g[i])+e[i])*w)
+		floor = woodLBFGSAnalyticLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// woodLBFGSAnalyticStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func woodLBFGSAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
+	for i := range s {
+		if !(woodLBFGSAnalyticAbs(s[i]) <= tol*(woodLBFGSAnalyticAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // woodLBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the

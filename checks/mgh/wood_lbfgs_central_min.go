@@ -191,11 +191,25 @@ func woodLBFGSCentralMinimize(x0 [4]float64, lim WoodLBFGSCentralLimits) woodLBF
 	t, slope := float64(woodLBFGSCentralStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                                  // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                        // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                           // whether g and e at x come from woodLBFGSCentralConfirmGradient
+	confirmed := false                                           // whether g and e at x come from woodLBFGSCentralConfirmGradient or settle
 	stalled := false                                             // whether the run can make no more progress at x
 	retried := -1                                                // the iteration whose stall was retried with recalibrated differences
+	verify := woodLBFGSCentralVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != woodLBFGSCentralVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see woodLBFGSCentralConfirmGradient and settle).
+			calls, ok := woodLBFGSCentralSettle(&x, fx, &g, &e, &diffs, verify == woodLBFGSCentralVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(WoodLBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !woodLBFGSCentralFiniteVec(&g) {
+				return best.ending(WoodLBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = woodLBFGSCentralVerifyNothing, true
+		case !confirmed:
 			woodLBFGSCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := woodLBFGSCentralGradientMeasure(&g, &e, &x, fx)
@@ -213,17 +227,7 @@ func woodLBFGSCentralMinimize(x0 [4]float64, lim WoodLBFGSCentralLimits) woodLBF
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := woodLBFGSCentralConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(WoodLBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !woodLBFGSCentralFiniteVec(&g) {
-				return best.ending(WoodLBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = woodLBFGSCentralVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -241,15 +245,7 @@ func woodLBFGSCentralMinimize(x0 [4]float64, lim WoodLBFGSCentralLimits) woodLBF
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if woodLBFGSCentralStepWithin(&s, &x, lim.Step) {
-				calls, ok := woodLBFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(WoodLBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !woodLBFGSCentralFiniteVec(&g) {
-					return best.ending(WoodLBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = woodLBFGSCentralVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -290,15 +286,7 @@ func woodLBFGSCentralMinimize(x0 [4]float64, lim WoodLBFGSCentralLimits) woodLBF
 			case found.rising:
 				end = WoodLBFGSCentralNoDecrease
 			case found.end == woodLBFGSCentralSearchTiny && canSettle:
-				calls, ok := woodLBFGSCentralSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(WoodLBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !woodLBFGSCentralFiniteVec(&g) {
-					return best.ending(WoodLBFGSCentralNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = woodLBFGSCentralVerifyStall, true
 				continue
 			case found.end == woodLBFGSCentralSearchTiny:
 				end = WoodLBFGSCentralStalled
@@ -659,37 +647,30 @@ func woodLBFGSCentralCurvatureSafe(s, y *[4]float64) bool {
 	return sy > 0 && (sy/woodLBFGSCentralDot(s, s))*(sy/woodLBFGSCentralDot(y, y)) > woodLBFGSCentralUnitRoundoff
 }
 
-// woodLBFGSCentralGradientError bounds each central difference's error by twice its
-// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
-// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
-// in forwardError).
-func woodLBFGSCentralGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *woodLBFGSCentralDifferences) {
-	noise := woodLBFGSCentralNoiseLevel(x, fx, g)
-	for i := range e {
-		h := diffs.ratio[i] * woodLBFGSCentralLarger(1, woodLBFGSCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	woodLBFGSCentralVerifyNothing = iota
+	woodLBFGSCentralVerifyPass    // a difference gradient passed the test
+	woodLBFGSCentralVerifyStall   // no step makes progress
+)
 
-// woodLBFGSCentralGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func woodLBFGSCentralGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
-	scale := woodLBFGSCentralLarger(woodLBFGSCentralAbs(fx), 1)
-	for i := range g {
-		w := woodLBFGSCentralLarger(woodLBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = woodLBFGSCentralLarger(measure, (woodLBFGSCentralAbs(g[i])+e[i])*w)
-		floor = woodLBFGSCentralLarger(floor, e[i]*w)
+// woodLBFGSCentralSettle prepares a verdict at x: with differences it confirms the
+// gradient (woodLBFGSCentralConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (woodLBFGSCentralRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func woodLBFGSCentralSettle(x *[4]float64, fx float64, g, e *[4]float64, diffs *woodLBFGSCentralDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if woodLBFGSCentralDerivativeCost > 0 {
+		spent, ok := woodLBFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
+	if stall {
+		woodLBFGSCentralRoundingFloor(x, g, e, diffs)
+	}
+	return calls, true
 }
 
 // woodLBFGSCentralConfirmGradient recomputes a difference gradient at x before the run is
@@ -722,33 +703,16 @@ func woodLBFGSCentralConfirmGradient(x *[4]float64, fx float64, g, e *[4]float64
 	return calls + 2*woodLBFGSCentralDerivativeCost, true
 }
 
-// woodLBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func woodLBFGSCentralStepWithin(s, x *[4]float64, tol float64) bool {
-	for i := range s {
-		if !(woodLBFGSCentralAbs(s[i]) <= tol*(woodLBFGSCentralAbs(x[i])+1)) {
-			return false
-		}
+// woodLBFGSCentralGradientError bounds each central difference's error by twice its
+// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
+// in forwardError).
+func woodLBFGSCentralGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *woodLBFGSCentralDifferences) {
+	noise := woodLBFGSCentralNoiseLevel(x, fx, g)
+	for i := range e {
+		h := diffs.ratio[i] * woodLBFGSCentralLarger(1, woodLBFGSCentralAbs(x[i]))
+		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
 	}
-	return true
-}
-
-// woodLBFGSCentralSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (woodLBFGSCentralConfirmGradient), then it adds to each error
-// bound the rounding floor of x (woodLBFGSCentralRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func woodLBFGSCentralSettle(x *[4]float64, fx float64, g, e *[4]float64, diffs *woodLBFGSCentralDifferences, budget int) (int, bool) {
-	calls := 0
-	if woodLBFGSCentralDerivativeCost > 0 {
-		spent, ok := woodLBFGSCentralConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
-	}
-	woodLBFGSCentralRoundingFloor(x, g, e, diffs)
-	return calls, true
 }
 
 // woodLBFGSCentralRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -769,6 +733,39 @@ func woodLBFGSCentralRoundingFloor(x, g, e *[4]float64, diffs *woodLBFGSCentralD
 // calibration, which woodLBFGSCentralConfirmGradient has just made at x.
 func woodLBFGSCentralDiagonalCurvature(x, g *[4]float64, diffs *woodLBFGSCentralDifferences, h *[4]float64) {
 	*h = diffs.second
+}
+
+// woodLBFGSCentralGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func woodLBFGSCentralGradientMeasure(g, e, x *[4]float64, fx float64) (measure, floor float64) {
+	scale := woodLBFGSCentralLarger(woodLBFGSCentralAbs(fx), 1)
+	for i := range g {
+		w := woodLBFGSCentralLarger(woodLBFGSCentralAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = woodLBFGSCentralLarger(measure, (woodLBFGSCentralAbs(g[i])+e[i])*w)
+		floor = woodLBFGSCentralLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// woodLBFGSCentralStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func woodLBFGSCentralStepWithin(s, x *[4]float64, tol float64) bool {
+	for i := range s {
+		if !(woodLBFGSCentralAbs(s[i]) <= tol*(woodLBFGSCentralAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // woodLBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the

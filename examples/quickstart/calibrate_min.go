@@ -190,11 +190,25 @@ func calibrateMinimize(x0 [2]float64, lim CalibrateLimits) calibrateOutcome {
 	t, slope := float64(calibrateStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                           // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                 // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                    // whether g and e at x come from calibrateConfirmGradient
+	confirmed := false                                    // whether g and e at x come from calibrateConfirmGradient or settle
 	stalled := false                                      // whether the run can make no more progress at x
 	retried := -1                                         // the iteration whose stall was retried with recalibrated differences
+	verify := calibrateVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != calibrateVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see calibrateConfirmGradient and settle).
+			calls, ok := calibrateSettle(&x, fx, &g, &e, &diffs, verify == calibrateVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(CalibrateOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !calibrateFiniteVec(&g) {
+				return best.ending(CalibrateNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = calibrateVerifyNothing, true
+		case !confirmed:
 			calibrateGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := calibrateGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func calibrateMinimize(x0 [2]float64, lim CalibrateLimits) calibrateOutcome {
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := calibrateConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(CalibrateOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !calibrateFiniteVec(&g) {
-				return best.ending(CalibrateNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = calibrateVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func calibrateMinimize(x0 [2]float64, lim CalibrateLimits) calibrateOutcome {
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if calibrateStepWithin(&s, &x, lim.Step) {
-				calls, ok := calibrateSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(CalibrateOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !calibrateFiniteVec(&g) {
-					return best.ending(CalibrateNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = calibrateVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func calibrateMinimize(x0 [2]float64, lim CalibrateLimits) calibrateOutcome {
 			case found.rising:
 				end = CalibrateNoDecrease
 			case found.end == calibrateSearchTiny && canSettle:
-				calls, ok := calibrateSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(CalibrateOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !calibrateFiniteVec(&g) {
-					return best.ending(CalibrateNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = calibrateVerifyStall, true
 				continue
 			case found.end == calibrateSearchTiny:
 				end = CalibrateStalled
@@ -490,51 +478,30 @@ func calibrateCurvatureSafe(s, y *[2]float64) bool {
 	return sy > 0 && (sy/calibrateDot(s, s))*(sy/calibrateDot(y, y)) > calibrateUnitRoundoff
 }
 
-// calibrateGradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func calibrateGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *calibrateDifferences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	calibrateVerifyNothing = iota
+	calibrateVerifyPass    // a difference gradient passed the test
+	calibrateVerifyStall   // no step makes progress
+)
 
-// calibrateGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func calibrateGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
-	scale := calibrateLarger(calibrateAbs(fx), 1)
-	for i := range g {
-		w := calibrateLarger(calibrateAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = calibrateLarger(measure, (calibrateAbs(g[i])+e[i])*w)
-		floor = calibrateLarger(floor, e[i]*w)
+// calibrateSettle prepares a verdict at x: with differences it confirms the
+// gradient (calibrateConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (calibrateRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func calibrateSettle(x *[2]float64, fx float64, g, e *[2]float64, diffs *calibrateDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if calibrateDerivativeCost > 0 {
+		spent, ok := calibrateConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// calibrateLarger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func calibrateLarger(a, b float64) float64 {
-	if a > b || a != a {
-		return a
+	if stall {
+		calibrateRoundingFloor(x, g, e, diffs)
 	}
-	return b
-}
-
-// calibrateAbs returns |v|.
-func calibrateAbs(v float64) float64 {
-	if v < 0 {
-		return -v
-	}
-	return v
+	return calls, true
 }
 
 // calibrateConfirmGradient recomputes a difference gradient at x before the run is
@@ -567,33 +534,20 @@ func calibrateConfirmGradient(x *[2]float64, fx float64, g, e *[2]float64, diffs
 	return calls + 2*calibrateDerivativeCost, true
 }
 
-// calibrateStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func calibrateStepWithin(s, x *[2]float64, tol float64) bool {
-	for i := range s {
-		if !(calibrateAbs(s[i]) <= tol*(calibrateAbs(x[i])+1)) {
-			return false
-		}
+// calibrateGradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func calibrateGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *calibrateDifferences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// calibrateSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (calibrateConfirmGradient), then it adds to each error
-// bound the rounding floor of x (calibrateRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func calibrateSettle(x *[2]float64, fx float64, g, e *[2]float64, diffs *calibrateDifferences, budget int) (int, bool) {
-	calls := 0
-	if calibrateDerivativeCost > 0 {
-		spent, ok := calibrateConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// calibrateAbs returns |v|.
+func calibrateAbs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	calibrateRoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // calibrateRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -636,6 +590,49 @@ func calibrateProbeStep(xi, h float64) (float64, float64) {
 // calibrateSquareRoot returns √v.
 func calibrateSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// calibrateLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func calibrateLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// calibrateGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func calibrateGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
+	scale := calibrateLarger(calibrateAbs(fx), 1)
+	for i := range g {
+		w := calibrateLarger(calibrateAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = calibrateLarger(measure, (calibrateAbs(g[i])+e[i])*w)
+		floor = calibrateLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// calibrateStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func calibrateStepWithin(s, x *[2]float64, tol float64) bool {
+	for i := range s {
+		if !(calibrateAbs(s[i]) <= tol*(calibrateAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // calibrateTinyStep returns the longest t for which the step t·d from x passes the

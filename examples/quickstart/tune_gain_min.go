@@ -190,11 +190,25 @@ func tuneGainMinimize(x0 [1]float64, lim TuneGainLimits) tuneGainOutcome {
 	t, slope := float64(tuneGainStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                          // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                   // whether g and e at x come from tuneGainConfirmGradient
+	confirmed := false                                   // whether g and e at x come from tuneGainConfirmGradient or settle
 	stalled := false                                     // whether the run can make no more progress at x
 	retried := -1                                        // the iteration whose stall was retried with recalibrated differences
+	verify := tuneGainVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != tuneGainVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see tuneGainConfirmGradient and settle).
+			calls, ok := tuneGainSettle(&x, fx, &g, &e, &diffs, verify == tuneGainVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(TuneGainOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !tuneGainFiniteVec(&g) {
+				return best.ending(TuneGainNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = tuneGainVerifyNothing, true
+		case !confirmed:
 			tuneGainGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := tuneGainGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func tuneGainMinimize(x0 [1]float64, lim TuneGainLimits) tuneGainOutcome {
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := tuneGainConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(TuneGainOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !tuneGainFiniteVec(&g) {
-				return best.ending(TuneGainNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = tuneGainVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func tuneGainMinimize(x0 [1]float64, lim TuneGainLimits) tuneGainOutcome {
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if tuneGainStepWithin(&s, &x, lim.Step) {
-				calls, ok := tuneGainSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(TuneGainOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !tuneGainFiniteVec(&g) {
-					return best.ending(TuneGainNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = tuneGainVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func tuneGainMinimize(x0 [1]float64, lim TuneGainLimits) tuneGainOutcome {
 			case found.rising:
 				end = TuneGainNoDecrease
 			case found.end == tuneGainSearchTiny && canSettle:
-				calls, ok := tuneGainSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(TuneGainOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !tuneGainFiniteVec(&g) {
-					return best.ending(TuneGainNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = tuneGainVerifyStall, true
 				continue
 			case found.end == tuneGainSearchTiny:
 				end = TuneGainStalled
@@ -633,37 +621,30 @@ func tuneGainCurvatureSafe(s, y *[1]float64) bool {
 	return sy > 0 && (sy/tuneGainDot(s, s))*(sy/tuneGainDot(y, y)) > tuneGainUnitRoundoff
 }
 
-// tuneGainGradientError bounds each central difference's error by twice its
-// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
-// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
-// in forwardError).
-func tuneGainGradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *tuneGainDifferences) {
-	noise := tuneGainNoiseLevel(x, fx, g)
-	for i := range e {
-		h := diffs.ratio[i] * tuneGainLarger(1, tuneGainAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	tuneGainVerifyNothing = iota
+	tuneGainVerifyPass    // a difference gradient passed the test
+	tuneGainVerifyStall   // no step makes progress
+)
 
-// tuneGainGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func tuneGainGradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
-	scale := tuneGainLarger(tuneGainAbs(fx), 1)
-	for i := range g {
-		w := tuneGainLarger(tuneGainAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = tuneGainLarger(measure, (tuneGainAbs(g[i])+e[i])*w)
-		floor = tuneGainLarger(floor, e[i]*w)
+// tuneGainSettle prepares a verdict at x: with differences it confirms the
+// gradient (tuneGainConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (tuneGainRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func tuneGainSettle(x *[1]float64, fx float64, g, e *[1]float64, diffs *tuneGainDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if tuneGainDerivativeCost > 0 {
+		spent, ok := tuneGainConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
+	if stall {
+		tuneGainRoundingFloor(x, g, e, diffs)
+	}
+	return calls, true
 }
 
 // tuneGainConfirmGradient recomputes a difference gradient at x before the run is
@@ -696,33 +677,16 @@ func tuneGainConfirmGradient(x *[1]float64, fx float64, g, e *[1]float64, diffs 
 	return calls + 2*tuneGainDerivativeCost, true
 }
 
-// tuneGainStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func tuneGainStepWithin(s, x *[1]float64, tol float64) bool {
-	for i := range s {
-		if !(tuneGainAbs(s[i]) <= tol*(tuneGainAbs(x[i])+1)) {
-			return false
-		}
+// tuneGainGradientError bounds each central difference's error by twice its
+// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
+// in forwardError).
+func tuneGainGradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *tuneGainDifferences) {
+	noise := tuneGainNoiseLevel(x, fx, g)
+	for i := range e {
+		h := diffs.ratio[i] * tuneGainLarger(1, tuneGainAbs(x[i]))
+		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
 	}
-	return true
-}
-
-// tuneGainSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (tuneGainConfirmGradient), then it adds to each error
-// bound the rounding floor of x (tuneGainRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func tuneGainSettle(x *[1]float64, fx float64, g, e *[1]float64, diffs *tuneGainDifferences, budget int) (int, bool) {
-	calls := 0
-	if tuneGainDerivativeCost > 0 {
-		spent, ok := tuneGainConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
-	}
-	tuneGainRoundingFloor(x, g, e, diffs)
-	return calls, true
 }
 
 // tuneGainRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -743,6 +707,39 @@ func tuneGainRoundingFloor(x, g, e *[1]float64, diffs *tuneGainDifferences) {
 // calibration, which tuneGainConfirmGradient has just made at x.
 func tuneGainDiagonalCurvature(x, g *[1]float64, diffs *tuneGainDifferences, h *[1]float64) {
 	*h = diffs.second
+}
+
+// tuneGainGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func tuneGainGradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
+	scale := tuneGainLarger(tuneGainAbs(fx), 1)
+	for i := range g {
+		w := tuneGainLarger(tuneGainAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = tuneGainLarger(measure, (tuneGainAbs(g[i])+e[i])*w)
+		floor = tuneGainLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// tuneGainStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func tuneGainStepWithin(s, x *[1]float64, tol float64) bool {
+	for i := range s {
+		if !(tuneGainAbs(s[i]) <= tol*(tuneGainAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // tuneGainTinyStep returns the longest t for which the step t·d from x passes the

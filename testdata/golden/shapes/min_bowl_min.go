@@ -191,11 +191,25 @@ func minBowlMinimize(x0 [3]float32, lim MinBowlLimits) minBowlOutcome {
 	t, slope := float32(minBowlStepInitial), float32(0) // the previous iteration's accepted step and slope
 	best := out                                         // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                               // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                  // whether g and e at x come from minBowlConfirmGradient
+	confirmed := false                                  // whether g and e at x come from minBowlConfirmGradient or settle
 	stalled := false                                    // whether the run can make no more progress at x
 	retried := -1                                       // the iteration whose stall was retried with recalibrated differences
+	verify := minBowlVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != minBowlVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see minBowlConfirmGradient and settle).
+			calls, ok := minBowlSettle(&x, fx, &g, &e, &diffs, verify == minBowlVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(MinBowlOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !minBowlFiniteVec(&g) {
+				return best.ending(MinBowlNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = minBowlVerifyNothing, true
+		case !confirmed:
 			minBowlGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := minBowlGradientMeasure(&g, &e, &x, fx)
@@ -213,17 +227,7 @@ func minBowlMinimize(x0 [3]float32, lim MinBowlLimits) minBowlOutcome {
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := minBowlConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(MinBowlOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !minBowlFiniteVec(&g) {
-				return best.ending(MinBowlNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = minBowlVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -241,15 +245,7 @@ func minBowlMinimize(x0 [3]float32, lim MinBowlLimits) minBowlOutcome {
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if minBowlStepWithin(&s, &x, lim.Step) {
-				calls, ok := minBowlSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(MinBowlOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !minBowlFiniteVec(&g) {
-					return best.ending(MinBowlNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = minBowlVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -290,15 +286,7 @@ func minBowlMinimize(x0 [3]float32, lim MinBowlLimits) minBowlOutcome {
 			case found.rising:
 				end = MinBowlNoDecrease
 			case found.end == minBowlSearchTiny && canSettle:
-				calls, ok := minBowlSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(MinBowlOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !minBowlFiniteVec(&g) {
-					return best.ending(MinBowlNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = minBowlVerifyStall, true
 				continue
 			case found.end == minBowlSearchTiny:
 				end = MinBowlStalled
@@ -614,38 +602,30 @@ func minBowlScaledTrial(t, slope, now float32) float32 {
 	return next
 }
 
-// minBowlGradientError bounds each forward difference's error by twice its
-// truncation h|f″|/2 plus rounding 2ε_A/h, with f″ from the last
-// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2
-// allows for f″ changing within the interval and since the calibration,
-// common practice).
-func minBowlGradientError(x *[3]float32, fx float32, g, e *[3]float32, diffs *minBowlDifferences) {
-	noise := minBowlNoiseLevel(x, fx, g)
-	for i := range e {
-		h := diffs.ratio[i] * minBowlLarger(1, minBowlAbs(x[i]))
-		e[i] = 2 * (h*diffs.curvature[i]/2 + 2*noise/h)
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	minBowlVerifyNothing = iota
+	minBowlVerifyPass    // a difference gradient passed the test
+	minBowlVerifyStall   // no step makes progress
+)
 
-// minBowlGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func minBowlGradientMeasure(g, e, x *[3]float32, fx float32) (measure, floor float32) {
-	scale := minBowlLarger(minBowlAbs(fx), 1)
-	for i := range g {
-		w := minBowlLarger(minBowlAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = minBowlLarger(measure, (minBowlAbs(g[i])+e[i])*w)
-		floor = minBowlLarger(floor, e[i]*w)
+// minBowlSettle prepares a verdict at x: with differences it confirms the
+// gradient (minBowlConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (minBowlRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func minBowlSettle(x *[3]float32, fx float32, g, e *[3]float32, diffs *minBowlDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if minBowlDerivativeCost > 0 {
+		spent, ok := minBowlConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
+	if stall {
+		minBowlRoundingFloor(x, g, e, diffs)
+	}
+	return calls, true
 }
 
 // minBowlConfirmGradient recomputes a difference gradient at x before the run is
@@ -678,33 +658,17 @@ func minBowlConfirmGradient(x *[3]float32, fx float32, g, e *[3]float32, diffs *
 	return calls + 2*minBowlDerivativeCost, true
 }
 
-// minBowlStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func minBowlStepWithin(s, x *[3]float32, tol float32) bool {
-	for i := range s {
-		if !(minBowlAbs(s[i]) <= tol*(minBowlAbs(x[i])+1)) {
-			return false
-		}
+// minBowlGradientError bounds each forward difference's error by twice its
+// truncation h|f″|/2 plus rounding 2ε_A/h, with f″ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2
+// allows for f″ changing within the interval and since the calibration,
+// common practice).
+func minBowlGradientError(x *[3]float32, fx float32, g, e *[3]float32, diffs *minBowlDifferences) {
+	noise := minBowlNoiseLevel(x, fx, g)
+	for i := range e {
+		h := diffs.ratio[i] * minBowlLarger(1, minBowlAbs(x[i]))
+		e[i] = 2 * (h*diffs.curvature[i]/2 + 2*noise/h)
 	}
-	return true
-}
-
-// minBowlSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (minBowlConfirmGradient), then it adds to each error
-// bound the rounding floor of x (minBowlRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func minBowlSettle(x *[3]float32, fx float32, g, e *[3]float32, diffs *minBowlDifferences, budget int) (int, bool) {
-	calls := 0
-	if minBowlDerivativeCost > 0 {
-		spent, ok := minBowlConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
-	}
-	minBowlRoundingFloor(x, g, e, diffs)
-	return calls, true
 }
 
 // minBowlRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -725,6 +689,39 @@ func minBowlRoundingFloor(x, g, e *[3]float32, diffs *minBowlDifferences) {
 // calibration, which minBowlConfirmGradient has just made at x.
 func minBowlDiagonalCurvature(x, g *[3]float32, diffs *minBowlDifferences, h *[3]float32) {
 	*h = diffs.second
+}
+
+// minBowlGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func minBowlGradientMeasure(g, e, x *[3]float32, fx float32) (measure, floor float32) {
+	scale := minBowlLarger(minBowlAbs(fx), 1)
+	for i := range g {
+		w := minBowlLarger(minBowlAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = minBowlLarger(measure, (minBowlAbs(g[i])+e[i])*w)
+		floor = minBowlLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// minBowlStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func minBowlStepWithin(s, x *[3]float32, tol float32) bool {
+	for i := range s {
+		if !(minBowlAbs(s[i]) <= tol*(minBowlAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // minBowlTinyStep returns the longest t for which the step t·d from x passes the

@@ -190,11 +190,25 @@ func minParabolaMinimize(x0 [1]float64, lim MinParabolaLimits) minParabolaOutcom
 	t, slope := float64(minParabolaStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                             // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                   // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                      // whether g and e at x come from minParabolaConfirmGradient
+	confirmed := false                                      // whether g and e at x come from minParabolaConfirmGradient or settle
 	stalled := false                                        // whether the run can make no more progress at x
 	retried := -1                                           // the iteration whose stall was retried with recalibrated differences
+	verify := minParabolaVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != minParabolaVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see minParabolaConfirmGradient and settle).
+			calls, ok := minParabolaSettle(&x, fx, &g, &e, &diffs, verify == minParabolaVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(MinParabolaOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !minParabolaFiniteVec(&g) {
+				return best.ending(MinParabolaNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = minParabolaVerifyNothing, true
+		case !confirmed:
 			minParabolaGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := minParabolaGradientMeasure(&g, &e, &x, fx)
@@ -212,17 +226,7 @@ func minParabolaMinimize(x0 [1]float64, lim MinParabolaLimits) minParabolaOutcom
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := minParabolaConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(MinParabolaOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !minParabolaFiniteVec(&g) {
-				return best.ending(MinParabolaNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = minParabolaVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -240,15 +244,7 @@ func minParabolaMinimize(x0 [1]float64, lim MinParabolaLimits) minParabolaOutcom
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if minParabolaStepWithin(&s, &x, lim.Step) {
-				calls, ok := minParabolaSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(MinParabolaOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !minParabolaFiniteVec(&g) {
-					return best.ending(MinParabolaNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = minParabolaVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -289,15 +285,7 @@ func minParabolaMinimize(x0 [1]float64, lim MinParabolaLimits) minParabolaOutcom
 			case found.rising:
 				end = MinParabolaNoDecrease
 			case found.end == minParabolaSearchTiny && canSettle:
-				calls, ok := minParabolaSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(MinParabolaOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !minParabolaFiniteVec(&g) {
-					return best.ending(MinParabolaNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = minParabolaVerifyStall, true
 				continue
 			case found.end == minParabolaSearchTiny:
 				end = MinParabolaStalled
@@ -633,37 +621,30 @@ func minParabolaCurvatureSafe(s, y *[1]float64) bool {
 	return sy > 0 && (sy/minParabolaDot(s, s))*(sy/minParabolaDot(y, y)) > minParabolaUnitRoundoff
 }
 
-// minParabolaGradientError bounds each central difference's error by twice its
-// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
-// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
-// in forwardError).
-func minParabolaGradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *minParabolaDifferences) {
-	noise := minParabolaNoiseLevel(x, fx, g)
-	for i := range e {
-		h := diffs.ratio[i] * minParabolaLarger(1, minParabolaAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	minParabolaVerifyNothing = iota
+	minParabolaVerifyPass    // a difference gradient passed the test
+	minParabolaVerifyStall   // no step makes progress
+)
 
-// minParabolaGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func minParabolaGradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
-	scale := minParabolaLarger(minParabolaAbs(fx), 1)
-	for i := range g {
-		w := minParabolaLarger(minParabolaAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = minParabolaLarger(measure, (minParabolaAbs(g[i])+e[i])*w)
-		floor = minParabolaLarger(floor, e[i]*w)
+// minParabolaSettle prepares a verdict at x: with differences it confirms the
+// gradient (minParabolaConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (minParabolaRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func minParabolaSettle(x *[1]float64, fx float64, g, e *[1]float64, diffs *minParabolaDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if minParabolaDerivativeCost > 0 {
+		spent, ok := minParabolaConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
+	if stall {
+		minParabolaRoundingFloor(x, g, e, diffs)
+	}
+	return calls, true
 }
 
 // minParabolaConfirmGradient recomputes a difference gradient at x before the run is
@@ -696,33 +677,16 @@ func minParabolaConfirmGradient(x *[1]float64, fx float64, g, e *[1]float64, dif
 	return calls + 2*minParabolaDerivativeCost, true
 }
 
-// minParabolaStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func minParabolaStepWithin(s, x *[1]float64, tol float64) bool {
-	for i := range s {
-		if !(minParabolaAbs(s[i]) <= tol*(minParabolaAbs(x[i])+1)) {
-			return false
-		}
+// minParabolaGradientError bounds each central difference's error by twice its
+// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
+// in forwardError).
+func minParabolaGradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *minParabolaDifferences) {
+	noise := minParabolaNoiseLevel(x, fx, g)
+	for i := range e {
+		h := diffs.ratio[i] * minParabolaLarger(1, minParabolaAbs(x[i]))
+		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
 	}
-	return true
-}
-
-// minParabolaSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (minParabolaConfirmGradient), then it adds to each error
-// bound the rounding floor of x (minParabolaRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func minParabolaSettle(x *[1]float64, fx float64, g, e *[1]float64, diffs *minParabolaDifferences, budget int) (int, bool) {
-	calls := 0
-	if minParabolaDerivativeCost > 0 {
-		spent, ok := minParabolaConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
-	}
-	minParabolaRoundingFloor(x, g, e, diffs)
-	return calls, true
 }
 
 // minParabolaRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -743,6 +707,39 @@ func minParabolaRoundingFloor(x, g, e *[1]float64, diffs *minParabolaDifferences
 // calibration, which minParabolaConfirmGradient has just made at x.
 func minParabolaDiagonalCurvature(x, g *[1]float64, diffs *minParabolaDifferences, h *[1]float64) {
 	*h = diffs.second
+}
+
+// minParabolaGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func minParabolaGradientMeasure(g, e, x *[1]float64, fx float64) (measure, floor float64) {
+	scale := minParabolaLarger(minParabolaAbs(fx), 1)
+	for i := range g {
+		w := minParabolaLarger(minParabolaAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = minParabolaLarger(measure, (minParabolaAbs(g[i])+e[i])*w)
+		floor = minParabolaLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// minParabolaStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func minParabolaStepWithin(s, x *[1]float64, tol float64) bool {
+	for i := range s {
+		if !(minParabolaAbs(s[i]) <= tol*(minParabolaAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // minParabolaTinyStep returns the longest t for which the step t·d from x passes the

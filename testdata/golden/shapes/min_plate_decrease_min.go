@@ -189,11 +189,25 @@ func minPlateDecreaseMinimize(x0 [2]float32, lim MinPlateDecreaseLimits) minPlat
 	t, slope := float32(minPlateDecreaseStepInitial), float32(0) // the previous iteration's accepted step and slope
 	best := out                                                  // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                        // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                           // whether g and e at x come from minPlateDecreaseConfirmGradient
+	confirmed := false                                           // whether g and e at x come from minPlateDecreaseConfirmGradient or settle
 	stalled := false                                             // whether the run can make no more progress at x
 	retried := -1                                                // the iteration whose stall was retried with recalibrated differences
+	verify := minPlateDecreaseVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != minPlateDecreaseVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see minPlateDecreaseConfirmGradient and settle).
+			calls, ok := minPlateDecreaseSettle(&x, fx, &g, &e, &diffs, verify == minPlateDecreaseVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(MinPlateDecreaseOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !minPlateDecreaseFiniteVec(&g) {
+				return best.ending(MinPlateDecreaseNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = minPlateDecreaseVerifyNothing, true
+		case !confirmed:
 			minPlateDecreaseGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := minPlateDecreaseGradientMeasure(&g, &e, &x, fx)
@@ -211,17 +225,7 @@ func minPlateDecreaseMinimize(x0 [2]float32, lim MinPlateDecreaseLimits) minPlat
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := minPlateDecreaseConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(MinPlateDecreaseOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !minPlateDecreaseFiniteVec(&g) {
-				return best.ending(MinPlateDecreaseNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = minPlateDecreaseVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -239,15 +243,7 @@ func minPlateDecreaseMinimize(x0 [2]float32, lim MinPlateDecreaseLimits) minPlat
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if minPlateDecreaseStepWithin(&s, &x, lim.Step) {
-				calls, ok := minPlateDecreaseSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(MinPlateDecreaseOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !minPlateDecreaseFiniteVec(&g) {
-					return best.ending(MinPlateDecreaseNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = minPlateDecreaseVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -288,15 +284,7 @@ func minPlateDecreaseMinimize(x0 [2]float32, lim MinPlateDecreaseLimits) minPlat
 			case found.rising:
 				end = MinPlateDecreaseNoDecrease
 			case found.end == minPlateDecreaseSearchTiny && canSettle:
-				calls, ok := minPlateDecreaseSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(MinPlateDecreaseOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !minPlateDecreaseFiniteVec(&g) {
-					return best.ending(MinPlateDecreaseNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = minPlateDecreaseVerifyStall, true
 				continue
 			case found.end == minPlateDecreaseSearchTiny:
 				end = MinPlateDecreaseStalled
@@ -578,37 +566,30 @@ func minPlateDecreaseScaledTrial(t, slope, now float32) float32 {
 	return next
 }
 
-// minPlateDecreaseGradientError bounds each central difference's error by twice its
-// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
-// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
-// in forwardError).
-func minPlateDecreaseGradientError(x *[2]float32, fx float32, g, e *[2]float32, diffs *minPlateDecreaseDifferences) {
-	noise := minPlateDecreaseNoiseLevel(x, fx, g)
-	for i := range e {
-		h := diffs.ratio[i] * minPlateDecreaseLarger(1, minPlateDecreaseAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	minPlateDecreaseVerifyNothing = iota
+	minPlateDecreaseVerifyPass    // a difference gradient passed the test
+	minPlateDecreaseVerifyStall   // no step makes progress
+)
 
-// minPlateDecreaseGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func minPlateDecreaseGradientMeasure(g, e, x *[2]float32, fx float32) (measure, floor float32) {
-	scale := minPlateDecreaseLarger(minPlateDecreaseAbs(fx), 1)
-	for i := range g {
-		w := minPlateDecreaseLarger(minPlateDecreaseAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = minPlateDecreaseLarger(measure, (minPlateDecreaseAbs(g[i])+e[i])*w)
-		floor = minPlateDecreaseLarger(floor, e[i]*w)
+// minPlateDecreaseSettle prepares a verdict at x: with differences it confirms the
+// gradient (minPlateDecreaseConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (minPlateDecreaseRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func minPlateDecreaseSettle(x *[2]float32, fx float32, g, e *[2]float32, diffs *minPlateDecreaseDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if minPlateDecreaseDerivativeCost > 0 {
+		spent, ok := minPlateDecreaseConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
+	if stall {
+		minPlateDecreaseRoundingFloor(x, g, e, diffs)
+	}
+	return calls, true
 }
 
 // minPlateDecreaseConfirmGradient recomputes a difference gradient at x before the run is
@@ -641,33 +622,16 @@ func minPlateDecreaseConfirmGradient(x *[2]float32, fx float32, g, e *[2]float32
 	return calls + 2*minPlateDecreaseDerivativeCost, true
 }
 
-// minPlateDecreaseStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func minPlateDecreaseStepWithin(s, x *[2]float32, tol float32) bool {
-	for i := range s {
-		if !(minPlateDecreaseAbs(s[i]) <= tol*(minPlateDecreaseAbs(x[i])+1)) {
-			return false
-		}
+// minPlateDecreaseGradientError bounds each central difference's error by twice its
+// truncation h²|f‴|/6 plus rounding ε_A/h, with f‴ from the last
+// calibration and ε_A at x (Nocedal & Wright 2006, §8.1; the factor 2 as
+// in forwardError).
+func minPlateDecreaseGradientError(x *[2]float32, fx float32, g, e *[2]float32, diffs *minPlateDecreaseDifferences) {
+	noise := minPlateDecreaseNoiseLevel(x, fx, g)
+	for i := range e {
+		h := diffs.ratio[i] * minPlateDecreaseLarger(1, minPlateDecreaseAbs(x[i]))
+		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
 	}
-	return true
-}
-
-// minPlateDecreaseSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (minPlateDecreaseConfirmGradient), then it adds to each error
-// bound the rounding floor of x (minPlateDecreaseRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func minPlateDecreaseSettle(x *[2]float32, fx float32, g, e *[2]float32, diffs *minPlateDecreaseDifferences, budget int) (int, bool) {
-	calls := 0
-	if minPlateDecreaseDerivativeCost > 0 {
-		spent, ok := minPlateDecreaseConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
-	}
-	minPlateDecreaseRoundingFloor(x, g, e, diffs)
-	return calls, true
 }
 
 // minPlateDecreaseRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -688,6 +652,39 @@ func minPlateDecreaseRoundingFloor(x, g, e *[2]float32, diffs *minPlateDecreaseD
 // calibration, which minPlateDecreaseConfirmGradient has just made at x.
 func minPlateDecreaseDiagonalCurvature(x, g *[2]float32, diffs *minPlateDecreaseDifferences, h *[2]float32) {
 	*h = diffs.second
+}
+
+// minPlateDecreaseGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func minPlateDecreaseGradientMeasure(g, e, x *[2]float32, fx float32) (measure, floor float32) {
+	scale := minPlateDecreaseLarger(minPlateDecreaseAbs(fx), 1)
+	for i := range g {
+		w := minPlateDecreaseLarger(minPlateDecreaseAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = minPlateDecreaseLarger(measure, (minPlateDecreaseAbs(g[i])+e[i])*w)
+		floor = minPlateDecreaseLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// minPlateDecreaseStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func minPlateDecreaseStepWithin(s, x *[2]float32, tol float32) bool {
+	for i := range s {
+		if !(minPlateDecreaseAbs(s[i]) <= tol*(minPlateDecreaseAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // minPlateDecreaseDot returns aᵀb.

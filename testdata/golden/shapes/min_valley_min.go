@@ -191,11 +191,25 @@ func minValleyMinimize(recv *Valley, x0 [2]float64, lim MinValleyLimits) minVall
 	t, slope := float64(minValleyStepInitial), float64(0) // the previous iteration's accepted step and slope
 	best := out                                           // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                 // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                    // whether g and e at x come from minValleyConfirmGradient
+	confirmed := false                                    // whether g and e at x come from minValleyConfirmGradient or settle
 	stalled := false                                      // whether the run can make no more progress at x
 	retried := -1                                         // the iteration whose stall was retried with recalibrated differences
+	verify := minValleyVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != minValleyVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see minValleyConfirmGradient and settle).
+			calls, ok := minValleySettle(recv, &x, fx, &g, &e, &diffs, verify == minValleyVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(MinValleyOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !minValleyFiniteVec(&g) {
+				return best.ending(MinValleyNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = minValleyVerifyNothing, true
+		case !confirmed:
 			minValleyGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := minValleyGradientMeasure(&g, &e, &x, fx)
@@ -213,17 +227,7 @@ func minValleyMinimize(recv *Valley, x0 [2]float64, lim MinValleyLimits) minVall
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := minValleyConfirmGradient(recv, &x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(MinValleyOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !minValleyFiniteVec(&g) {
-				return best.ending(MinValleyNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = minValleyVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -241,15 +245,7 @@ func minValleyMinimize(recv *Valley, x0 [2]float64, lim MinValleyLimits) minVall
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if minValleyStepWithin(&s, &x, lim.Step) {
-				calls, ok := minValleySettle(recv, &x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(MinValleyOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !minValleyFiniteVec(&g) {
-					return best.ending(MinValleyNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = minValleyVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -290,15 +286,7 @@ func minValleyMinimize(recv *Valley, x0 [2]float64, lim MinValleyLimits) minVall
 			case found.rising:
 				end = MinValleyNoDecrease
 			case found.end == minValleySearchTiny && canSettle:
-				calls, ok := minValleySettle(recv, &x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(MinValleyOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !minValleyFiniteVec(&g) {
-					return best.ending(MinValleyNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = minValleyVerifyStall, true
 				continue
 			case found.end == minValleySearchTiny:
 				end = MinValleyStalled
@@ -516,51 +504,30 @@ func minValleyCurvatureSafe(s, y *[2]float64) bool {
 	return sy > 0 && (sy/minValleyDot(s, s))*(sy/minValleyDot(y, y)) > minValleyUnitRoundoff
 }
 
-// minValleyGradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func minValleyGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *minValleyDifferences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	minValleyVerifyNothing = iota
+	minValleyVerifyPass    // a difference gradient passed the test
+	minValleyVerifyStall   // no step makes progress
+)
 
-// minValleyGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func minValleyGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
-	scale := minValleyLarger(minValleyAbs(fx), 1)
-	for i := range g {
-		w := minValleyLarger(minValleyAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = minValleyLarger(measure, (minValleyAbs(g[i])+e[i])*w)
-		floor = minValleyLarger(floor, e[i]*w)
+// minValleySettle prepares a verdict at x: with differences it confirms the
+// gradient (minValleyConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (minValleyRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func minValleySettle(recv *Valley, x *[2]float64, fx float64, g, e *[2]float64, diffs *minValleyDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if minValleyDerivativeCost > 0 {
+		spent, ok := minValleyConfirmGradient(recv, x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// minValleyLarger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func minValleyLarger(a, b float64) float64 {
-	if a > b || a != a {
-		return a
+	if stall {
+		minValleyRoundingFloor(recv, x, g, e, diffs)
 	}
-	return b
-}
-
-// minValleyAbs returns |v|.
-func minValleyAbs(v float64) float64 {
-	if v < 0 {
-		return -v
-	}
-	return v
+	return calls, true
 }
 
 // minValleyConfirmGradient recomputes a difference gradient at x before the run is
@@ -593,33 +560,20 @@ func minValleyConfirmGradient(recv *Valley, x *[2]float64, fx float64, g, e *[2]
 	return calls + 2*minValleyDerivativeCost, true
 }
 
-// minValleyStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func minValleyStepWithin(s, x *[2]float64, tol float64) bool {
-	for i := range s {
-		if !(minValleyAbs(s[i]) <= tol*(minValleyAbs(x[i])+1)) {
-			return false
-		}
+// minValleyGradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func minValleyGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *minValleyDifferences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// minValleySettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (minValleyConfirmGradient), then it adds to each error
-// bound the rounding floor of x (minValleyRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func minValleySettle(recv *Valley, x *[2]float64, fx float64, g, e *[2]float64, diffs *minValleyDifferences, budget int) (int, bool) {
-	calls := 0
-	if minValleyDerivativeCost > 0 {
-		spent, ok := minValleyConfirmGradient(recv, x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// minValleyAbs returns |v|.
+func minValleyAbs(v float64) float64 {
+	if v < 0 {
+		return -v
 	}
-	minValleyRoundingFloor(recv, x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // minValleyRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -662,6 +616,49 @@ func minValleyProbeStep(xi, h float64) (float64, float64) {
 // minValleySquareRoot returns √v.
 func minValleySquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// minValleyLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func minValleyLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// minValleyGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func minValleyGradientMeasure(g, e, x *[2]float64, fx float64) (measure, floor float64) {
+	scale := minValleyLarger(minValleyAbs(fx), 1)
+	for i := range g {
+		w := minValleyLarger(minValleyAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = minValleyLarger(measure, (minValleyAbs(g[i])+e[i])*w)
+		floor = minValleyLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// minValleyStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func minValleyStepWithin(s, x *[2]float64, tol float64) bool {
+	for i := range s {
+		if !(minValleyAbs(s[i]) <= tol*(minValleyAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // minValleyTinyStep returns the longest t for which the step t·d from x passes the

@@ -187,11 +187,25 @@ func minPlateMinimize(x0 [2]float32, lim MinPlateLimits) minPlateOutcome {
 	t, slope := float32(minPlateStepInitial), float32(0) // the previous iteration's accepted step and slope
 	best := out                                          // the lowest point seen, for runs that end unconverged
 	start, rises := fx, 0                                // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                   // whether g and e at x come from minPlateConfirmGradient
+	confirmed := false                                   // whether g and e at x come from minPlateConfirmGradient or settle
 	stalled := false                                     // whether the run can make no more progress at x
 	retried := -1                                        // the iteration whose stall was retried with recalibrated differences
+	verify := minPlateVerifyNothing                      // what to check at x before judging it again
 	for {
-		if !confirmed {
+		switch {
+		case verify != minPlateVerifyNothing:
+			// Confirm a difference gradient that passed the test, or
+			// settle at a stall (see minPlateConfirmGradient and settle).
+			calls, ok := minPlateSettle(&x, fx, &g, &e, &diffs, verify == minPlateVerifyStall, lim.Evaluations-out.evaluations)
+			out.evaluations += calls
+			if !ok {
+				return best.ending(MinPlateOutOfEvaluations, out.iterations, out.evaluations)
+			}
+			if !minPlateFiniteVec(&g) {
+				return best.ending(MinPlateNonFiniteGradient, out.iterations, out.evaluations)
+			}
+			verify, confirmed = minPlateVerifyNothing, true
+		case !confirmed:
 			minPlateGradientError(&x, fx, &g, &e, &diffs)
 		}
 		measure, floor := minPlateGradientMeasure(&g, &e, &x, fx)
@@ -209,17 +223,7 @@ func minPlateMinimize(x0 [2]float32, lim MinPlateLimits) minPlateOutcome {
 			return out
 		}
 		if measure <= out.gradientLimit {
-			// Differences pass the test: confirm it with intervals chosen
-			// here and an error measured rather than modelled.
-			calls, ok := minPlateConfirmGradient(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(MinPlateOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !minPlateFiniteVec(&g) {
-				return best.ending(MinPlateNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			confirmed = true
+			verify = minPlateVerifyPass // differences pass the test: confirm it
 			continue
 		}
 		if stalled {
@@ -237,15 +241,7 @@ func minPlateMinimize(x0 [2]float32, lim MinPlateLimits) minPlateOutcome {
 		canSettle := retried != out.iterations
 		if out.iterations > 0 && canSettle {
 			if minPlateStepWithin(&s, &x, lim.Step) {
-				calls, ok := minPlateSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(MinPlateOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !minPlateFiniteVec(&g) {
-					return best.ending(MinPlateNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = minPlateVerifyStall, true
 				continue
 			}
 			if rises >= 8 {
@@ -286,15 +282,7 @@ func minPlateMinimize(x0 [2]float32, lim MinPlateLimits) minPlateOutcome {
 			case found.rising:
 				end = MinPlateNoDecrease
 			case found.end == minPlateSearchTiny && canSettle:
-				calls, ok := minPlateSettle(&x, fx, &g, &e, &diffs, lim.Evaluations-out.evaluations)
-				out.evaluations += calls
-				if !ok {
-					return best.ending(MinPlateOutOfEvaluations, out.iterations, out.evaluations)
-				}
-				if !minPlateFiniteVec(&g) {
-					return best.ending(MinPlateNonFiniteGradient, out.iterations, out.evaluations)
-				}
-				stalled, confirmed = true, true
+				verify, stalled = minPlateVerifyStall, true
 				continue
 			case found.end == minPlateSearchTiny:
 				end = MinPlateStalled
@@ -433,51 +421,30 @@ func minPlateScaledTrial(t, slope, now float32) float32 {
 	return next
 }
 
-// minPlateGradientError: the analytic gradient is taken as exact; its error is
-// the user's to check (the generated test compares it with differences).
-func minPlateGradientError(x *[2]float32, fx float32, g, e *[2]float32, diffs *minPlateDifferences) {
-	for i := range e {
-		e[i] = 0
-	}
-}
+// What minimize checks at x before judging it again.
+const (
+	minPlateVerifyNothing = iota
+	minPlateVerifyPass    // a difference gradient passed the test
+	minPlateVerifyStall   // no step makes progress
+)
 
-// minPlateGradientMeasure is the scale-free measure
-//
-//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
-//
-// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
-// change of f for a relative change of x_i, which means the same whatever
-// the units of f and of each x_i above 1.
-//
-// References:
-//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
-//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
-func minPlateGradientMeasure(g, e, x *[2]float32, fx float32) (measure, floor float32) {
-	scale := minPlateLarger(minPlateAbs(fx), 1)
-	for i := range g {
-		w := minPlateLarger(minPlateAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
-		measure = minPlateLarger(measure, (minPlateAbs(g[i])+e[i])*w)
-		floor = minPlateLarger(floor, e[i]*w)
+// minPlateSettle prepares a verdict at x: with differences it confirms the
+// gradient (minPlateConfirmGradient), and at a stall it adds to each error bound
+// the rounding floor of x (minPlateRoundingFloor). It returns the objective calls
+// spent and false when budget ran out first.
+func minPlateSettle(x *[2]float32, fx float32, g, e *[2]float32, diffs *minPlateDifferences, stall bool, budget int) (int, bool) {
+	calls := 0
+	if minPlateDerivativeCost > 0 {
+		spent, ok := minPlateConfirmGradient(x, fx, g, e, diffs, budget)
+		if !ok {
+			return spent, false
+		}
+		calls = spent
 	}
-	return measure, floor
-}
-
-// minPlateLarger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func minPlateLarger(a, b float32) float32 {
-	if a > b || a != a {
-		return a
+	if stall {
+		minPlateRoundingFloor(x, g, e, diffs)
 	}
-	return b
-}
-
-// minPlateAbs returns |v|.
-func minPlateAbs(v float32) float32 {
-	if v < 0 {
-		return -v
-	}
-	return v
+	return calls, true
 }
 
 // minPlateConfirmGradient recomputes a difference gradient at x before the run is
@@ -510,33 +477,20 @@ func minPlateConfirmGradient(x *[2]float32, fx float32, g, e *[2]float32, diffs 
 	return calls + 2*minPlateDerivativeCost, true
 }
 
-// minPlateStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
-// each component on its own scale, so a small component still moving is
-// not hidden by a large one.
-func minPlateStepWithin(s, x *[2]float32, tol float32) bool {
-	for i := range s {
-		if !(minPlateAbs(s[i]) <= tol*(minPlateAbs(x[i])+1)) {
-			return false
-		}
+// minPlateGradientError: the analytic gradient is taken as exact; its error is
+// the user's to check (the generated test compares it with differences).
+func minPlateGradientError(x *[2]float32, fx float32, g, e *[2]float32, diffs *minPlateDifferences) {
+	for i := range e {
+		e[i] = 0
 	}
-	return true
 }
 
-// minPlateSettle prepares the final verdict at a stall: with differences it
-// confirms the gradient (minPlateConfirmGradient), then it adds to each error
-// bound the rounding floor of x (minPlateRoundingFloor). It returns the objective
-// calls spent and false when budget ran out first.
-func minPlateSettle(x *[2]float32, fx float32, g, e *[2]float32, diffs *minPlateDifferences, budget int) (int, bool) {
-	calls := 0
-	if minPlateDerivativeCost > 0 {
-		spent, ok := minPlateConfirmGradient(x, fx, g, e, diffs, budget)
-		if !ok {
-			return spent, false
-		}
-		calls = spent
+// minPlateAbs returns |v|.
+func minPlateAbs(v float32) float32 {
+	if v < 0 {
+		return -v
 	}
-	minPlateRoundingFloor(x, g, e, diffs)
-	return calls, true
+	return v
 }
 
 // minPlateRoundingFloor adds to each error bound e_i the change 4u·|xᵢ|·|∂²f/∂xᵢ²|
@@ -579,6 +533,49 @@ func minPlateProbeStep(xi, h float32) (float32, float32) {
 // minPlateSquareRoot returns √v.
 func minPlateSquareRoot(v float32) float32 {
 	return float32(math.Sqrt(float64(v)))
+}
+
+// minPlateLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func minPlateLarger(a, b float32) float32 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// minPlateGradientMeasure is the scale-free measure
+//
+//	max_i (|g_i| + e_i)·max(|x_i|, 1) / max(|f(x)|, 1)
+//
+// of Dennis & Schnabel 1983, §7.2 (typical x and f of 1): the relative
+// change of f for a relative change of x_i, which means the same whatever
+// the units of f and of each x_i above 1.
+//
+// References:
+//   - J. E. Dennis and R. B. Schnabel, Numerical Methods for Unconstrained
+//     Optimization and Nonlinear Equations, Prentice-Hall, 1983, §7.2.
+func minPlateGradientMeasure(g, e, x *[2]float32, fx float32) (measure, floor float32) {
+	scale := minPlateLarger(minPlateAbs(fx), 1)
+	for i := range g {
+		w := minPlateLarger(minPlateAbs(x[i]), 1) / scale // D&S §7.2: relative gradient
+		measure = minPlateLarger(measure, (minPlateAbs(g[i])+e[i])*w)
+		floor = minPlateLarger(floor, e[i]*w)
+	}
+	return measure, floor
+}
+
+// minPlateStepWithin is the step test: every |s_i| ≤ tol·(|x_i| + 1). It judges
+// each component on its own scale, so a small component still moving is
+// not hidden by a large one.
+func minPlateStepWithin(s, x *[2]float32, tol float32) bool {
+	for i := range s {
+		if !(minPlateAbs(s[i]) <= tol*(minPlateAbs(x[i])+1)) {
+			return false
+		}
+	}
+	return true
 }
 
 // minPlateDot returns aᵀb.
