@@ -153,6 +153,43 @@ start = [1.0, 2.0]
 x = 1.0`, []misfitWant{
 		misfitInSpec(4, 5, "expect.x must have the shape of start (2 values)"),
 	}},
+	{"bounds of the wrong shape", `objective = "ArrayObj"
+start = [1.0, 2.0]
+[minimizer.bounds]
+lower = 0.0
+upper = [1.0, 2.0, 3.0]`, []misfitWant{
+		misfitInSpec(4, 9, "bounds.lower must be an array of 2 numbers (inf or -inf for no bound)"),
+		misfitInSpec(5, 10, "bounds.upper has 3 values, the objective has 2 unknowns"),
+	}},
+	{"bounds on a scalar as a list", `objective = "ScalarObj"
+start = 1.0
+[minimizer.bounds]
+upper = [2.0]`, []misfitWant{
+		misfitInSpec(4, 10, "bounds.upper must be a single number: ScalarObj takes a scalar"),
+	}},
+	{"bounds crossed", `objective = "ArrayObj"
+start = [1.0, 2.0]
+[minimizer.bounds]
+lower = [0.0, 3.0]
+upper = [1.0, 2.5]`, []misfitWant{
+		misfitInSpec(4, 15, "bounds.lower (3) is above bounds.upper (2.5) for unknown 1: the box is empty"),
+	}},
+	{"bounds nan and wrong infinity", `objective = "ArrayObj"
+start = [1.0, 2.0]
+[minimizer.bounds]
+lower = [nan, -inf]
+upper = [-inf, inf]`, []misfitWant{
+		misfitInSpec(4, 10, "bounds.lower must not be nan; write -inf for no bound"),
+		misfitInSpec(5, 10, "bounds.upper must not be -inf: no point lies within it"),
+	}},
+	{"expect.x outside the bounds", `objective = "ArrayObj"
+start = [1.0, 2.0]
+[minimizer.bounds]
+lower = [0.0, 0.0]
+[minimizer.expect]
+x = [1.0, -1.0]`, []misfitWant{
+		misfitInSpec(6, 6, "expect.x lies outside the bounds (unknown 1: -1 is not within [0, inf]); no run can end there"),
+	}},
 	{"objective not found", `objective = "Missing"
 start = 1.0`, []misfitWant{
 		misfitInSpec(1, 13, "objective Missing: no such function in package bad"),

@@ -210,7 +210,8 @@ var badSpecs = []struct {
 		`17:10: output "fit3_min_test.go" must end in .go and not in _test.go`,
 	}},
 	{"bounds.toml", []string{
-		"6:2: [minimizer.bounds] is not supported yet",
+		`7:2: direction "cg" cannot take bounds: its directions stay conjugate, and descend, only along unbroken lines, which projection onto the box breaks; use direction "lbfgs" or "bfgs" with bounds`,
+		"16:2: [minimizer.bounds] needs lower, upper or both",
 	}},
 	{"expect_tolerance.toml", []string{
 		"8:13: expect.tolerance must be a positive number, got 0",
@@ -372,8 +373,12 @@ func TestBadSpecSnippets(t *testing.T) {
 			"5:15: step.shrink must be in (0, 1), got 2",
 			"6:19: stop.iterations must be in [1, 1e+09], got 0",
 		}},
-		{"bounds inline", head + "bounds = { lower = 0.0 }\n", []string{
-			"5:1: [minimizer.bounds] is not supported yet",
+		{"bounds inline", head + "bounds = {}\n", []string{
+			"5:1: [minimizer.bounds] needs lower, upper or both",
+		}},
+		{"bounds with unknown key", head + "[minimizer.bounds]\nlow = 0.0\n", []string{
+			"5:2: [minimizer.bounds] needs lower, upper or both",
+			`6:1: unknown key "minimizer.bounds.low"; did you mean "lower"?`,
 		}},
 		{"infinite tolerance", head + "[minimizer.expect]\nx = 1.0\ntolerance = inf\n", []string{
 			"7:13: expect.tolerance must be a positive number, got +Inf",

@@ -7,6 +7,7 @@ import (
 	"go/parser"
 	"go/token"
 	"io"
+	"math"
 	"strings"
 
 	"github.com/dave/jennifer/jen"
@@ -33,6 +34,7 @@ func emitMinimizer(w io.Writer, p *Plan, choice kernelChoice) error {
 	f.HeaderComment(headerLine(p.SpecName))
 	emitStatus(f, p)
 	emitTypes(f, p)
+	emitBox(f, p)
 	emitEntry(f, p, kernels.entryName)
 	emitTunables(f, p, kernels.uses)
 	var buf bytes.Buffer
@@ -167,6 +169,44 @@ func emitTypes(f *jen.File, p *Plan) {
 	)
 }
 
+// emitBox writes the type the kernels keep the box of [minimizer.bounds]
+// in: the lower and upper bounds, or nothing when the spec has none.
+//
+//	type prefixBox struct { lower, upper [N]T }
+func emitBox(f *jen.File, p *Plan) {
+	name := p.Prefix + "Box"
+	if !p.Bounded {
+		f.Commentf("%s is empty: %s sets no bounds on %s.", name, p.SpecName, p.M.Name)
+		f.Type().Id(name).Struct()
+		return
+	}
+	f.Commentf("%s is the box lower ≤ x ≤ upper of %s's [minimizer.bounds], ±Inf where a side is open.", name, p.SpecName)
+	f.Type().Id(name).Struct(jen.List(jen.Id("lower"), jen.Id("upper")).Index(jen.Lit(p.Dim)).Id(p.Shape.Elem))
+}
+
+// boxValue is the box the entry point hands the kernels.
+func boxValue(p *Plan) *jen.Statement {
+	name := p.Prefix + "Box"
+	if !p.Bounded {
+		return jen.Id(name).Values()
+	}
+	side := func(vals []float64) *jen.Statement {
+		items := make([]jen.Code, len(vals))
+		for i, v := range vals {
+			switch {
+			case math.IsInf(v, 0) && p.Shape.Elem == "float32":
+				items[i] = jen.Float32().Call(jen.Qual("math", "Inf").Call(jen.Lit(int(math.Copysign(1, v)))))
+			case math.IsInf(v, 0):
+				items[i] = jen.Qual("math", "Inf").Call(jen.Lit(int(math.Copysign(1, v))))
+			default:
+				items[i] = jen.Op(formatFloat(v))
+			}
+		}
+		return jen.Index(jen.Lit(p.Dim)).Id(p.Shape.Elem).Values(items...)
+	}
+	return jen.Id(name).Values(jen.Dict{jen.Id("lower"): side(p.M.Lower), jen.Id("upper"): side(p.M.Upper)})
+}
+
 // emitEntry writes the two entry points:
 //
 //	func NAME([recv R,] x0 X) NAMEResult { return NAMEWithLimits([recv,] x0, NAMEDefaultLimits()) }
@@ -190,7 +230,7 @@ func emitEntry(f *jen.File, p *Plan, kernel string) {
 		start = jen.Index(jen.Lit(1)).Id(p.Shape.Elem).Values(jen.Id("x0"))
 		x = jen.Id("out").Dot("x").Index(jen.Lit(0))
 	}
-	kernelArgs = append(kernelArgs, start, jen.Id("limits"))
+	kernelArgs = append(kernelArgs, start, jen.Id("limits"), boxValue(p))
 
 	for _, line := range entryDoc(p) {
 		f.Comment(line)
@@ -227,6 +267,13 @@ func entryDoc(p *Plan) []string {
 		fmt.Sprintf("Step rule %s: %s.", p.Rule.Name, p.Rule.Summary),
 		fmt.Sprintf("Derivative %s: %s.", p.Derivative.Name, p.Derivative.Summary),
 		fmt.Sprintf("Gradient test %s: %s.", p.Test.Name, p.Test.Math),
+	}
+	if p.Bounded {
+		var box []string
+		for i := range p.M.Lower {
+			box = append(box, fmt.Sprintf("[%s, %s]", tomlNumber(p.M.Lower[i]), tomlNumber(p.M.Upper[i])))
+		}
+		lines = append(lines, fmt.Sprintf("Bounds %s: %s; Gradient is the measure of the projected gradient (zero in components pushing against a bound they sit on).", strings.Join(box, " × "), rules.Bounds.Summary))
 	}
 	var constants, stop []string
 	for _, e := range []*rules.Entry{p.Rule, p.Direction, p.Derivative} {

@@ -67,6 +67,19 @@ func EmitTests(w io.Writer, p *Plan) error {
 				jen.Id("r").Dot("X"), jen.Id("r").Dot("F")),
 		))
 	}
+	if p.Bounded {
+		doc += ", for X within the bounds"
+		body = append(body, jen.Id("b").Op(":=").Add(boxValue(p)))
+		x := jen.Id("r").Dot("X")
+		if p.Shape.Scalar() {
+			x = jen.Index(jen.Lit(1)).Id(p.Shape.Elem).Values(jen.Id("r").Dot("X"))
+		}
+		body = append(body, jen.For(jen.List(jen.Id("i"), jen.Id("v")).Op(":=").Range().Add(x)).Block(
+			jen.If(jen.Op("!").Parens(jen.Id("v").Op(">=").Id("b").Dot("lower").Index(jen.Id("i")).Op("&&").Id("v").Op("<=").Id("b").Dot("upper").Index(jen.Id("i")))).Block(
+				jen.Id("t").Dot("Errorf").Call(jen.Lit("x[%d] = %v lies outside the bounds [%v, %v]"), jen.Id("i"), jen.Id("v"), jen.Id("b").Dot("lower").Index(jen.Id("i")), jen.Id("b").Dot("upper").Index(jen.Id("i"))),
+			),
+		))
+	}
 	if e := p.M.Expect; e != nil && e.X != nil {
 		doc += ", then for x within expect.tolerance of expect.x (NaN fails)"
 		tol := jen.Op(formatFloat(e.Tolerance))
@@ -180,6 +193,46 @@ func emitTestReceiver(f *jen.File, p *Plan, fn string) {
 	f.Func().Id(fn).Params().Add(t).Block(body...)
 }
 
+// differenceAt is the gradient check's difference along xᵢ: central, or
+// with bounds the three-point endpoint formula on the side with room when
+// the box leaves none for ±h,
+//
+//	f′ ≈ ∓(3f(x) − 4f(x ± h) + f(x ± 2h))/(2h)
+//
+// (Burden & Faires, Numerical Analysis, §4.1), skipping a component whose
+// box is narrower than the stencil.
+func differenceAt(p *Plan, recvArg []jen.Code) jen.Code {
+	value := func(x string) *jen.Statement {
+		return jen.Float64().Call(jen.Id("value").Call(append(append([]jen.Code(nil), recvArg...), jen.Id(x))...))
+	}
+	raw := func(x string) *jen.Statement {
+		return jen.Id("value").Call(append(append([]jen.Code(nil), recvArg...), jen.Id(x))...)
+	}
+	central := jen.Float64().Call(raw("up").Op("-").Add(raw("down"))).Op("/").Float64().Call(jen.Id("up").Index(jen.Id("i")).Op("-").Id("down").Index(jen.Id("i")))
+	if !p.Bounded {
+		return jen.Id("approx").Op(":=").Add(central)
+	}
+	b := func(side string) *jen.Statement { return jen.Id("b").Dot(side).Index(jen.Id("i")) }
+	xi := jen.Id("x").Index(jen.Id("i"))
+	twoH := jen.Lit(2).Op("*").Id("h")
+	return jen.Var().Id("approx").Float64().Line().Switch().Block(
+		jen.Case(jen.Id("up").Index(jen.Id("i")).Op("<=").Add(b("upper")).Op("&&").Id("down").Index(jen.Id("i")).Op(">=").Add(b("lower"))).Block(
+			jen.Id("approx").Op("=").Add(central),
+		),
+		jen.Case(xi.Clone().Op("+").Add(twoH.Clone()).Op("<=").Add(b("upper"))).Block(
+			jen.Id("far").Op(":=").Id("x"),
+			jen.Id("far").Index(jen.Id("i")).Op("+=").Add(twoH.Clone()),
+			jen.Id("approx").Op("=").Parens(jen.Lit(-3).Op("*").Add(value("x")).Op("+").Lit(4).Op("*").Add(value("up")).Op("-").Add(value("far"))).Op("/").Parens(jen.Lit(2).Op("*").Float64().Call(jen.Id("h"))),
+		),
+		jen.Case(xi.Clone().Op("-").Add(twoH.Clone()).Op(">=").Add(b("lower"))).Block(
+			jen.Id("far").Op(":=").Id("x"),
+			jen.Id("far").Index(jen.Id("i")).Op("-=").Add(twoH.Clone()),
+			jen.Id("approx").Op("=").Parens(jen.Lit(3).Op("*").Add(value("x")).Op("-").Lit(4).Op("*").Add(value("down")).Op("+").Add(value("far"))).Op("/").Parens(jen.Lit(2).Op("*").Float64().Call(jen.Id("h"))),
+		),
+		jen.Default().Block(jen.Continue().Comment("the box is narrower than the stencil along xᵢ")),
+	)
+}
+
 // emitGradientCheck writes a test comparing the analytic gradient with
 // central differences at the start and two nearby points.
 func emitGradientCheck(f *jen.File, p *Plan, helper string, setup func() []jen.Code) {
@@ -237,11 +290,30 @@ func emitGradientCheck(f *jen.File, p *Plan, helper string, setup func() []jen.C
 	if s.Scalar() {
 		finalX = vec.Clone().Values(finalX)
 	}
-	f.Commentf("Test%sGradientMatchesDifferences compares %s with central differences, h = ∛u·max(1, |xᵢ|), at the start, two nearby points, three points along the first search direction −∇f (at 1%%, 10%% and 50%% of max(1, ‖x0‖∞)) and where the run from start ends, so that a gradient wrong only near the minimizer is caught too. It allows the truncation error as %s relative to max(1, |gᵢ|) (common practice) plus 100 times the rounding bound u·|f|/h (Nocedal & Wright 2006, §8.1). NaN or ±Inf fails at the start and its neighbours; points farther out where f is not finite lie outside the objective's domain and are skipped.", name, s.Gradient, tol)
-	f.Func().Id("Test" + name + "GradientMatchesDifferences").Params(jen.Id("t").Op("*").Qual("testing", "T")).Block(append(setup(),
+	// With bounds every point is projected into the box, and the
+	// differences turn one-sided where the box leaves no room.
+	inside := func(x jen.Code) jen.Code { return x }
+	var boxed []jen.Code
+	boxDoc := ""
+	if p.Bounded {
+		inside = func(x jen.Code) jen.Code { return jen.Id("inside").Call(x) }
+		boxed = []jen.Code{
+			jen.Id("b").Op(":=").Add(boxValue(p)),
+			jen.Id("inside").Op(":=").Func().Params(jen.Id("x").Add(vec.Clone())).Add(vec.Clone()).Block(
+				jen.For(jen.Id("i").Op(":=").Range().Id("x")).Block(
+					jen.If(jen.Id("x").Index(jen.Id("i")).Op("<").Id("b").Dot("lower").Index(jen.Id("i"))).Block(jen.Id("x").Index(jen.Id("i")).Op("=").Id("b").Dot("lower").Index(jen.Id("i"))),
+					jen.If(jen.Id("x").Index(jen.Id("i")).Op(">").Id("b").Dot("upper").Index(jen.Id("i"))).Block(jen.Id("x").Index(jen.Id("i")).Op("=").Id("b").Dot("upper").Index(jen.Id("i"))),
+				),
+				jen.Return(jen.Id("x")),
+			),
+		}
+		boxDoc = " With bounds every point is projected into the box and the objective is never evaluated outside it: where the box leaves no room for ±h the three-point endpoint formula on the side with room takes over (Burden & Faires, Numerical Analysis, §4.1), and a component whose box is narrower than 2h is not checked."
+	}
+	f.Commentf("Test%sGradientMatchesDifferences compares %s with central differences, h = ∛u·max(1, |xᵢ|), at the start, two nearby points, three points along the first search direction −∇f (at 1%%, 10%% and 50%% of max(1, ‖x0‖∞)) and where the run from start ends, so that a gradient wrong only near the minimizer is caught too. It allows the truncation error as %s relative to max(1, |gᵢ|) (common practice) plus 100 times the rounding bound u·|f|/h (Nocedal & Wright 2006, §8.1). NaN or ±Inf fails at the start and its neighbours; points farther out where f is not finite lie outside the objective's domain and are skipped.%s", name, s.Gradient, tol, boxDoc)
+	f.Func().Id("Test" + name + "GradientMatchesDifferences").Params(jen.Id("t").Op("*").Qual("testing", "T")).Block(append(append(setup(), boxed...),
 		jen.Id("value").Op(":=").Func().Params(append(recvParam, jen.Id("x").Add(vec.Clone()))...).Id(s.Elem).Block(jen.Return(recvPrefix(s.Objective).Call(valueArg...))),
 		jen.Id("gradient").Op(":=").Func().Params(append(recvParam, jen.Id("x").Add(vec.Clone()))...).Params(jen.Id("g").Add(vec.Clone())).Block(append(gradBody, jen.Return())...),
-		jen.Id("start").Op(":=").Add(startVec),
+		jen.Id("start").Op(":=").Add(inside(startVec)),
 		// points: the start and two neighbours, steps along −∇f(start), the run's end.
 		jen.Id("points").Op(":=").Index().Add(vec.Clone()).Values(jen.Id("start")),
 		jen.For(jen.Id("k").Op(":=").Lit(1), jen.Id("k").Op("<").Lit(3), jen.Id("k").Op("++")).Block(
@@ -249,7 +321,7 @@ func emitGradientCheck(f *jen.File, p *Plan, helper string, setup func() []jen.C
 			jen.For(jen.Id("i").Op(":=").Range().Id("x")).Block(
 				jen.Id("x").Index(jen.Id("i")).Op("+=").Id(s.Elem).Call(jen.Id("k")).Op("*").Lit(0.01).Op("*").Id(s.Elem).Call(jen.Id("i").Op("+").Lit(1)),
 			),
-			jen.Id("points").Op("=").Append(jen.Id("points"), jen.Id("x")),
+			jen.Id("points").Op("=").Append(jen.Id("points"), inside(jen.Id("x"))),
 		),
 		jen.List(jen.Id("g0"), jen.Id("steepest"), jen.Id("size")).Op(":=").List(jen.Id("gradient").Call(append(recvArg, jen.Id("start"))...), jen.Lit(0.0), jen.Lit(1.0)),
 		jen.For(jen.Id("i").Op(":=").Range().Id("start")).Block(
@@ -262,7 +334,7 @@ func emitGradientCheck(f *jen.File, p *Plan, helper string, setup func() []jen.C
 				jen.For(jen.Id("i").Op(":=").Range().Id("x")).Block(
 					jen.Id("x").Index(jen.Id("i")).Op("-=").Id(s.Elem).Call(jen.Id("part").Op("*").Id("size").Op("*").Float64().Call(jen.Id("g0").Index(jen.Id("i"))).Op("/").Id("steepest")),
 				),
-				jen.Id("points").Op("=").Append(jen.Id("points"), jen.Id("x")),
+				jen.Id("points").Op("=").Append(jen.Id("points"), inside(jen.Id("x"))),
 			),
 		),
 		jen.Id("points").Op("=").Append(jen.Id("points"), finalX),
@@ -278,7 +350,7 @@ func emitGradientCheck(f *jen.File, p *Plan, helper string, setup func() []jen.C
 				jen.List(jen.Id("up"), jen.Id("down")).Op(":=").List(jen.Id("x"), jen.Id("x")),
 				jen.Id("up").Index(jen.Id("i")).Op("+=").Id("h"),
 				jen.Id("down").Index(jen.Id("i")).Op("-=").Id("h"),
-				jen.Id("approx").Op(":=").Float64().Call(jen.Id("value").Call(append(recvArg, jen.Id("up"))...).Op("-").Id("value").Call(append(recvArg, jen.Id("down"))...)).Op("/").Float64().Call(jen.Id("up").Index(jen.Id("i")).Op("-").Id("down").Index(jen.Id("i"))),
+				differenceAt(p, recvArg),
 				jen.Id("exact").Op(":=").Float64().Call(jen.Id("g").Index(jen.Id("i"))),
 				jen.Id("allowed").Op(":=").Op(tol).Op("*").Qual("math", "Max").Call(jen.Lit(1.0), jen.Qual("math", "Abs").Call(jen.Id("exact"))).Op("+").Lit(100).Op("*").Op(formatFloat(rules.Roundoff(s.Elem))).Op("*").Id("fx").Op("/").Float64().Call(jen.Id("h")),
 				jen.If(jen.Op("!").Parens(jen.Qual("math", "Abs").Call(jen.Id("approx").Op("-").Id("exact")).Op("<=").Id("allowed"))).Block(

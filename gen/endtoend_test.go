@@ -79,7 +79,7 @@ func TestEndToEnd(t *testing.T) {
 	t.Run("vet", func(t *testing.T) { e2eGo(t, root, nil, "vet", "./...") })
 	t.Run("test", func(t *testing.T) {
 		out := e2eGo(t, root, nil, "test", "-count=1", "-v", "-bench=.", "-benchtime=1x", "./...")
-		for _, pkg := range []string{"e2e/plain", "e2e/grad", "e2e/methods/recv"} {
+		for _, pkg := range e2ePackages {
 			if !regexp.MustCompile(`(?m)^ok\s+` + regexp.QuoteMeta(pkg) + `\s`).MatchString(out) {
 				t.Errorf("go test did not report ok for %s:\n%s", pkg, out)
 			}
@@ -112,7 +112,7 @@ func TestEndToEnd(t *testing.T) {
 				if err != nil {
 					t.Fatalf("%v\n%s", err, out)
 				}
-				for _, pkg := range []string{"e2e/plain", "e2e/grad", "e2e/methods/recv"} {
+				for _, pkg := range e2ePackages {
 					if !regexp.MustCompile(`(?m)^ok\s+` + regexp.QuoteMeta(pkg) + `\s`).MatchString(out) {
 						t.Errorf("go test did not report ok for %s:\n%s", pkg, out)
 					}
@@ -339,6 +339,11 @@ func e2eCheckCoverage(t *testing.T, plans []*Plan) {
 			}
 		}
 		have["rule "+rule] = true
+		if p.Bounded {
+			have["bounds "+p.Direction.Name+" "+p.Derivative.Name] = true
+			have["bounds rule "+p.Rule.Name] = true
+			have["bounds "+s.Elem+" "+argNames[s.Arg]] = true
+		}
 		for q := range m.Given {
 			have["set "+q.Path()] = true
 		}
@@ -388,6 +393,19 @@ func e2eCheckCoverage(t *testing.T, plans []*Plan) {
 	for _, q := range rules.Params() {
 		want = append(want, "set "+q.Path())
 	}
+	// Bounds with every direction that takes them, every derivative
+	// source and every step rule, in both float types.
+	for _, d := range rules.Direction.Entries {
+		for _, src := range rules.Derivative.Entries {
+			if d.NoBounds == "" {
+				want = append(want, "bounds "+d.Name+" "+src.Name)
+			}
+		}
+	}
+	for _, e := range rules.StepRule.Entries {
+		want = append(want, "bounds rule "+e.Name)
+	}
+	want = append(want, "bounds float32 scalar", "bounds float64 scalar", "bounds float32 array", "bounds float64 array", "bounds float64 pointer")
 	var missing []string
 	for _, w := range want {
 		if !have[w] {
@@ -405,7 +423,10 @@ func e2eCheckCoverage(t *testing.T, plans []*Plan) {
 // the minimizer found it; methods read their receiver's shift A, so a test
 // run on the wrong receiver misses the expected point.
 
-var e2eSpecs = []string{"plain/plain.toml", "grad/grad.toml", "methods/methods.toml"}
+var e2eSpecs = []string{"plain/plain.toml", "grad/grad.toml", "methods/methods.toml", "boxed/boxed.toml"}
+
+// e2ePackages are the module's packages whose tests must pass.
+var e2ePackages = []string{"e2e/plain", "e2e/grad", "e2e/methods/recv", "e2e/boxed"}
 
 func e2eModule() map[string]string {
 	files := map[string]string{
@@ -415,6 +436,9 @@ func e2eModule() map[string]string {
 		"grad/grad.go":         e2eGradGo,
 		"grad/grad.toml":       e2eGradSpec,
 		"methods/methods.toml": e2eMethodsSpec,
+		"boxed/boxed.go":       e2eBoxedGo,
+		"boxed/boxed.toml":     e2eBoxedSpec,
+		"boxed/boxed_test.go":  e2eBoxedTest,
 	}
 	var recv strings.Builder
 	recv.WriteString(e2eRecvHead)

@@ -36,6 +36,7 @@ func Hypot(p, q float64) float64
 func Inf(sign int) float64
 func IsInf(f float64, sign int) bool
 func IsNaN(f float64) (is bool)
+func Ldexp(frac float64, exp int) float64
 func Log(x float64) float64
 func Max(x, y float64) float64
 func Min(x, y float64) float64

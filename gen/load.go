@@ -285,7 +285,93 @@ func (lp *loadedPackage) resolve(spec *Spec, m *Minimizer, probs *Problems) (Sha
 			break
 		}
 	}
+	if m.bounds != nil && len(*probs) == before {
+		resolveBounds(m, shape, at, probs)
+	}
 	return shape, len(*probs) == before
+}
+
+// tomlNumber writes v as a spec would: 1.5, inf, -inf.
+func tomlNumber(v float64) string {
+	switch {
+	case math.IsInf(v, 1):
+		return "inf"
+	case math.IsInf(v, -1):
+		return "-inf"
+	}
+	return fmt.Sprint(v)
+}
+
+// resolveBounds checks [minimizer.bounds] against the objective's shape:
+// a number per side for scalar objectives, else a list of dim numbers;
+// each side optional, ±inf allowed, lower ≤ upper, no NaN. An expect.x
+// outside the box cannot be reached. The start may lie outside: the
+// minimizer projects it in.
+func resolveBounds(m *Minimizer, shape Shape, at func(string) Pos, probs *Problems) {
+	side := func(key string, open float64) []float64 {
+		vals := make([]float64, shape.Dim)
+		for i := range vals {
+			vals[i] = open
+		}
+		raw, given := m.bounds[key]
+		if !given {
+			return vals
+		}
+		path := "bounds." + key
+		x, scalar, ok := numbers(raw)
+		switch {
+		case !ok:
+			probs.add(at(path), "bounds.%s must be a number or an array of numbers", key)
+			return nil
+		case shape.Scalar() && !scalar:
+			probs.add(at(path), "bounds.%s must be a single number: %s takes a scalar", key, m.Objective)
+			return nil
+		case !shape.Scalar() && scalar:
+			probs.add(at(path), "bounds.%s must be an array of %d numbers (inf or -inf for no bound)", key, shape.Dim)
+			return nil
+		case len(x) != shape.Dim:
+			probs.add(at(path), "bounds.%s has %d values, the objective has %d unknowns", key, len(x), shape.Dim)
+			return nil
+		}
+		for i, v := range x {
+			where := at(path)
+			if !scalar {
+				where = at(fmt.Sprintf("%s.%d", path, i))
+			}
+			switch {
+			case math.IsNaN(v):
+				probs.add(where, "bounds.%s must not be nan; write %s for no bound", key, tomlNumber(open))
+				return nil
+			case math.IsInf(v, 0) && v != open:
+				probs.add(where, "bounds.%s must not be %s: no point lies within it", key, tomlNumber(v))
+				return nil
+			}
+		}
+		return x
+	}
+	lower, upper := side("lower", math.Inf(-1)), side("upper", math.Inf(1))
+	if lower == nil || upper == nil {
+		return
+	}
+	for i := range lower {
+		if lower[i] > upper[i] {
+			where := at("bounds.lower")
+			if !shape.Scalar() {
+				where = at(fmt.Sprintf("bounds.lower.%d", i))
+			}
+			probs.add(where, "bounds.lower (%s) is above bounds.upper (%s) for unknown %d: the box is empty", tomlNumber(lower[i]), tomlNumber(upper[i]), i)
+			return
+		}
+	}
+	if m.Expect != nil {
+		for i, v := range m.Expect.X {
+			if i < len(lower) && (v < lower[i] || v > upper[i]) {
+				probs.add(at("expect.x"), "expect.x lies outside the bounds (unknown %d: %s is not within [%s, %s]); no run can end there", i, tomlNumber(v), tomlNumber(lower[i]), tomlNumber(upper[i]))
+				return
+			}
+		}
+	}
+	m.Lower, m.Upper = lower, upper
 }
 
 // lookupFunc finds "Func" or "Type.Method" in the package. When onType is

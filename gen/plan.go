@@ -47,7 +47,7 @@ func newPlan(spec *Spec, m *Minimizer, shape Shape) *Plan {
 // resolveContext fixes every parameter's value: the spec's, else the
 // default for the chosen entries, float type and dimension.
 func resolveContext(m *Minimizer, elem string, dim int) *rules.Context {
-	c := &rules.Context{Elem: elem, Dim: dim, Derivative: m.Derivative, Direction: m.Direction, Rule: m.Rule, Test: m.Test}
+	c := &rules.Context{Elem: elem, Dim: dim, Derivative: m.Derivative, Direction: m.Direction, Rule: m.Rule, Test: m.Test, Bounded: m.Lower != nil}
 	values := map[*rules.Param]float64{}
 	c.Value = func(p *rules.Param) float64 {
 		if v, ok := m.Given[p]; ok {
@@ -93,9 +93,21 @@ func (p *Plan) WorstCase() (calls int, byIterations int) {
 // glue emits for the stand-ins it provides.
 func (p *Plan) kernelChoice() kernelChoice {
 	pick := map[string]string{}
+	feature := rules.Bounds.Off
+	if p.Bounded {
+		feature = rules.Bounds.On
+	}
+	for dispatcher, alternative := range feature {
+		pick[dispatcher] = alternative
+	}
 	for _, e := range p.Entries() {
 		for dispatcher, alternative := range e.Picks {
 			pick[dispatcher] = alternative
+		}
+		if p.Bounded {
+			for dispatcher, alternative := range e.BoundedPicks {
+				pick[dispatcher] = alternative
+			}
 		}
 	}
 	for _, q := range rules.Params() {
@@ -112,6 +124,7 @@ func (p *Plan) kernelChoice() kernelChoice {
 	provided := map[string]string{
 		"status": p.M.Name + "Status",
 		"limits": p.M.Name + "Limits",
+		"box":    p.Prefix + "Box",
 	}
 	for _, s := range rules.Statuses {
 		provided[s.StandIn] = p.M.Name + s.Suffix

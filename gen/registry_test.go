@@ -71,6 +71,13 @@ func TestRegistryMatchesTemplates(t *testing.T) {
 			addPicks(c.Key+" "+e.Name, e.Picks)
 		}
 	}
+	for _, c := range rules.Choices() {
+		for _, e := range c.Entries {
+			addPicks(c.Key+" "+e.Name+" with bounds", e.BoundedPicks)
+		}
+	}
+	addPicks("bounds off", rules.Bounds.Off)
+	addPicks("bounds on", rules.Bounds.On)
 	for _, q := range rules.Params() {
 		addPicks("switch "+q.Path()+" on", q.On)
 		addPicks("switch "+q.Path()+" off", q.Off)

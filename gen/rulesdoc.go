@@ -37,6 +37,19 @@ func WriteRules(w io.Writer) {
 			fmt.Fprintln(w)
 		}
 	}
+	b := rules.Bounds
+	fmt.Fprintf(w, "%s: [minimizer.%s] lower and upper, optional\n\n", b.Table, b.Table)
+	fmt.Fprintf(w, "  %s\n", b.Summary)
+	fmt.Fprintf(w, "      %s\n", b.Math)
+	for _, e := range rules.Direction.Entries {
+		if e.NoBounds != "" {
+			fmt.Fprintf(w, "      not with direction %s: %s\n", e.Name, e.NoBounds)
+		}
+	}
+	for _, r := range b.References {
+		fmt.Fprintf(w, "      ref: %s\n", r)
+	}
+	fmt.Fprintln(w)
 	fmt.Fprintln(w, "stop: limits every minimizer reads ([minimizer.stop])")
 	fmt.Fprintln(w)
 	for _, p := range rules.Params() {

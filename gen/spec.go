@@ -46,9 +46,13 @@ type Minimizer struct {
 
 	Expect *Expect
 	Start  []float64 // set once the objective's shape is known
+	// Lower and Upper are the box of [minimizer.bounds], ±Inf for open
+	// sides, set once the objective's shape is known; nil without bounds.
+	Lower, Upper []float64
 
 	start     any
 	expectX   any
+	bounds    map[string]any // [minimizer.bounds] as decoded, nil without it
 	keyPrefix string // "minimizer.N"
 	problems  int    // problems found in this entry
 }
@@ -374,8 +378,14 @@ func (r *specReader) minimizer(table map[string]any, i int) *Minimizer {
 		}
 	}
 	r.output(m, table, key)
-	if _, ok := tables["bounds"]; ok {
-		r.add(r.ix.key(key+".bounds"), "[minimizer.bounds] is not supported yet")
+	if bounds, ok := tables["bounds"]; ok {
+		m.bounds = bounds
+		switch {
+		case bounds["lower"] == nil && bounds["upper"] == nil:
+			r.add(r.ix.key(key+".bounds"), "[minimizer.bounds] needs lower, upper or both")
+		case m.Direction != nil && m.Direction.NoBounds != "":
+			r.add(r.ix.key(key+".bounds"), "direction %q cannot take bounds: %s", m.Direction.Name, m.Direction.NoBounds)
+		}
 	}
 	if expect, ok := tables["expect"]; ok {
 		r.expect(m, expect, key)

@@ -208,7 +208,7 @@ type specializedKernels struct {
 // the glue emits them. (Selectors and their values are never reached:
 // every dispatcher that reads them is replaced by its alternative.)
 var standIns = map[string]bool{
-	"elem": true, "dim": true, "vec": true, "receiver": true, "status": true, "limits": true,
+	"elem": true, "dim": true, "vec": true, "receiver": true, "status": true, "limits": true, "box": true,
 	"statusGradientSmall": true, "Source": true, "observe": true,
 }
 

@@ -23,7 +23,7 @@ type TraceRow struct {
 	Trials        int     // trial points this step's line search evaluated (0 at the start)
 	GradientCalls int     // objective calls for finite differences in this step (at the start, the first gradient's)
 	F             float64 // f(x)
-	Gradient      float64 // largest |∂f/∂xᵢ|: the gradient test's measure
+	Gradient      float64 // largest |∂f/∂xᵢ|, with bounds of the projected gradient (components pushing against a bound they sit on count as 0)
 	Step          float64 // the accepted step t along d (0 at the start)
 	Slope         float64 // ∇fᵀd where this step's search began (0 at the start)
 	X             []float64
@@ -158,15 +158,25 @@ func emitTraceHarness(w io.Writer, p *Plan) error {
 			jen.If(jen.Id("thalwegTraceRows").Op("==").Lit(0).Op("||").Float64().Call(jen.Id("v")).Op(">").Id("thalwegTraceHigh").Index(jen.Id("i"))).Block(jen.Id("thalwegTraceHigh").Index(jen.Id("i")).Op("=").Float64().Call(jen.Id("v"))),
 		)
 	}
+	// With bounds, the projected gradient: a component pushing against a
+	// bound it sits on counts as 0.
+	gradientIndex, projected := jen.Id("_"), []jen.Code(nil)
+	if p.Bounded {
+		gradientIndex = jen.Id("i")
+		projected = []jen.Code{
+			jen.Id("b").Op(":=").Add(boxValue(p)),
+			jen.If(jen.Parens(jen.Id("x").Index(jen.Id("i")).Op("<=").Id("b").Dot("lower").Index(jen.Id("i")).Op("&&").Id("v").Op(">").Lit(0)).Op("||").Parens(jen.Id("x").Index(jen.Id("i")).Op(">=").Id("b").Dot("upper").Index(jen.Id("i")).Op("&&").Id("v").Op("<").Lit(0))).Block(jen.Continue()),
+		}
+	}
 	f.Func().Id(traceHook).Params(
 		jen.List(jen.Id("iteration"), jen.Id("evaluations")).Int(),
 		jen.Id("x").Add(vec.Clone()), jen.Id("fx").Id(s.Elem), jen.Id("g").Add(vec.Clone()),
 		jen.List(jen.Id("step"), jen.Id("slope")).Id(s.Elem),
 	).Block(
 		jen.Id("largest").Op(":=").Lit(0.0),
-		jen.For(jen.List(jen.Id("_"), jen.Id("v")).Op(":=").Range().Id("g")).Block(
+		jen.For(jen.List(gradientIndex, jen.Id("v")).Op(":=").Range().Id("g")).Block(append(projected,
 			jen.If(jen.Id("a").Op(":=").Qual("math", "Abs").Call(float(jen.Id("v"))), jen.Id("a").Op(">").Id("largest").Op("||").Id("a").Op("!=").Id("a")).Block(jen.Id("largest").Op("=").Id("a")),
-		),
+		)...),
 		jen.Id("row").Op(":=").Index().Byte().Call(jen.Qual("fmt", "Sprintf").Call(jen.Lit("thalweg-trace\t%d\t%d\t%d"), jen.Id("iteration"), jen.Id("evaluations"), jen.Id("thalwegTraceTrials"))),
 		appendFloat("row", float(jen.Id("fx"))),
 		appendFloat("row", jen.Id("largest")),

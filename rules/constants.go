@@ -28,6 +28,9 @@ var Constants = []*Constant{
 		}
 		return "0x1.fffffffffffffp1023"
 	}},
+	{"activeMargin", "ε̄, the widest margin of the ε-active set at a bound (Bertsekas 1982; the value is common practice)", func(c *Context) string {
+		return "1e-3"
+	}},
 	{"centralScale", "∛u, central-difference step scale (Nocedal & Wright 2006, §8.1)", func(c *Context) string {
 		return FormatFloat(math.Cbrt(Roundoff(c.Elem)))
 	}},

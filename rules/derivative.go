@@ -20,7 +20,7 @@ var (
 	Forward = Derivative.register(&Entry{
 		Name:             "forward",
 		Summary:          "forward differences: dim objective calls per gradient, intervals from the objective's curvature, error O(√u)",
-		Math:             "gᵢ ≈ (f(x + hᵢeᵢ) − f(x))/hᵢ, hᵢ = 2√(ε_A/|f″|) with f″ estimated along eᵢ (2 calls per unknown), error bound 2(hᵢ|f″|/2 + 2ε_A/hᵢ), ε_A = 4u|f|",
+		Math:             "gᵢ ≈ (f(x + hᵢeᵢ) − f(x))/hᵢ, hᵢ = 2√(ε_A/|f″|) with f″ estimated along eᵢ (2 calls per unknown), error bound 2(hᵢ|f″|/2 + 2ε_A/hᵢ), ε_A = 4u(|f| + Σ|gᵢxᵢ|); one-sided three-point probes at a bound",
 		References:       []string{GillMurraySaundersWright, NocedalWright + ", eq. 8.1 and §8.1"},
 		Picks:            Picks{"derivative": "forwardDifference", "calibrate": "calibrateForward", "gradientError": "forwardError", "diagonalCurvature": "calibratedCurvature"},
 		GradientCalls:    func(dim int) int { return dim },
@@ -30,7 +30,7 @@ var (
 	Central = Derivative.register(&Entry{
 		Name:             "central",
 		Summary:          "central differences: 2·dim objective calls per gradient, intervals from the objective's curvature, error O(u^(2/3))",
-		Math:             "gᵢ ≈ (f(x + hᵢeᵢ) − f(x − hᵢeᵢ))/(2hᵢ), hᵢ = ∛(3ε_A/|f‴|) with f‴ estimated along eᵢ (4 calls per unknown), error bound 2(hᵢ²|f‴|/6 + ε_A/hᵢ), ε_A = 4u|f|",
+		Math:             "gᵢ ≈ (f(x + hᵢeᵢ) − f(x − hᵢeᵢ))/(2hᵢ), hᵢ = ∛(3ε_A/|f‴|) with f‴ estimated along eᵢ (4 calls per unknown), error bound 2(hᵢ²|f‴|/6 + ε_A/hᵢ), ε_A = 4u(|f| + Σ|gᵢxᵢ|); at a bound the one-sided three-point formula, bound 2(hᵢ²|f‴|/3 + 4ε_A/hᵢ)",
 		References:       []string{GillMurraySaundersWright, NocedalWright + ", eq. 8.7 and §8.1"},
 		Picks:            Picks{"derivative": "centralDifference", "calibrate": "calibrateCentral", "gradientError": "centralError", "diagonalCurvature": "calibratedCurvature"},
 		GradientCalls:    func(dim int) int { return 2 * dim },

@@ -72,5 +72,6 @@ var (
 		SmallerState:   `use direction "steepest"`,
 		Fallback:       Steepest,
 		NeedsCurvature: true,
+		NoBounds:       `its directions stay conjugate, and descend, only along unbroken lines, which projection onto the box breaks; use direction "lbfgs" or "bfgs" with bounds`,
 	})
 )

@@ -180,6 +180,12 @@ type Entry struct {
 	// is the step rule it gets when the spec names none.
 	NeedsCurvature bool
 	DefaultRule    *Entry
+
+	// BoundedPicks override the entry's Picks and Bounds.On when the spec
+	// has bounds (Armijo's test along the projection arc), and NoBounds
+	// says why the entry cannot take bounds; "" when it can.
+	BoundedPicks Picks
+	NoBounds     string
 }
 
 // Reads reports whether the entry reads the parameter.
@@ -251,6 +257,7 @@ type Context struct {
 	Dim                               int
 	Derivative, Direction, Rule, Test *Entry
 	Value                             func(*Param) float64
+	Bounded                           bool // whether the spec has [minimizer.bounds]
 }
 
 // Entries lists the chosen entries, in the order of Choices.

@@ -47,6 +47,7 @@ var (
 			DennisSchnabel + ", Algorithm A6.3.1 (interpolation safeguards)",
 		},
 		Picks:          Picks{"lineSearch": "backtrackSearch", "acceptable": "armijoDecrease"},
+		BoundedPicks:   Picks{"acceptable": "arcDecrease"},
 		IterationCalls: backtrackingCalls,
 		Tune:           true,
 	})

@@ -5,11 +5,11 @@ package templates
 // loop with a hand-picked step. On a quadratic with Hessian A, steepest
 // descent with step t maps the error e to (I − tA)e, so it converges only
 // when t < 2/λ_max(A) and otherwise oscillates or diverges (closed form).
-func fixedStep(recv *receiver, x *vec, fx elem, d *vec, slope, first, tiny elem, budget int, xt, gt *vec, diffs *differences) lineResult {
+func fixedStep(recv *receiver, x *vec, fx elem, g, d *vec, slope, first, tiny elem, budget int, xt, gt *vec, diffs *differences) lineResult {
 	if budget < 1 {
 		return lineResult{end: searchOutOfBudget}
 	}
-	moveTo(xt, x, stepInitial, d)
+	trialPoint(xt, x, stepInitial, d, &diffs.bounds)
 	ft := recv.objective(xt)
 	if !finite(ft) {
 		return lineResult{calls: 1, end: searchDiverged}
@@ -21,7 +21,7 @@ func fixedStep(recv *receiver, x *vec, fx elem, d *vec, slope, first, tiny elem,
 // acceptance test holds, taking t ← next trial after each
 // failure, by fixed shrink or by interpolation (Nocedal & Wright 2006,
 // Algorithm 3.1 and §3.5). A non-finite value fails like any trial.
-func backtrackSearch(recv *receiver, x *vec, fx elem, d *vec, slope, first, tiny elem, budget int, xt, gt *vec, diffs *differences) lineResult {
+func backtrackSearch(recv *receiver, x *vec, fx elem, g, d *vec, slope, first, tiny elem, budget int, xt, gt *vec, diffs *differences) lineResult {
 	t := first
 	var previous, fPrevious elem
 	var trend riseTrend
@@ -32,9 +32,9 @@ func backtrackSearch(recv *receiver, x *vec, fx elem, d *vec, slope, first, tiny
 		if trial >= budget {
 			return lineResult{calls: trial, end: searchOutOfBudget}
 		}
-		moveTo(xt, x, t, d)
+		trialPoint(xt, x, t, d, &diffs.bounds)
 		ft := recv.objective(xt)
-		if finite(ft) && acceptable(fx, ft, t, slope) {
+		if finite(ft) && acceptable(fx, ft, t, slope, x, xt, g) {
 			return lineResult{step: t, value: ft, calls: trial + 1, end: searchAccepted}
 		}
 		trend.add(x, xt, d, t, ft-fx, fx)
@@ -43,20 +43,24 @@ func backtrackSearch(recv *receiver, x *vec, fx elem, d *vec, slope, first, tiny
 	return lineResult{calls: stepTrials, rising: trend.contradicts(), end: searchExhausted}
 }
 
-// acceptable is the backtracking rule's test of a trial t with value ft.
-// It stands in for the rule the spec chose; gen keeps only that one under
-// this name.
-func acceptable(fx, ft, t, slope elem) bool {
-	if stepRule == ruleDecrease {
-		return simpleDecrease(fx, ft, t, slope)
+// acceptable is the backtracking rule's test of a trial t, at xt, with
+// value ft; g is the gradient at x. It stands in for the rule the spec
+// chose, along the projection arc when the spec has bounds; gen keeps
+// only that one under this name.
+func acceptable(fx, ft, t, slope elem, x, xt, g *vec) bool {
+	switch {
+	case stepRule == ruleDecrease:
+		return simpleDecrease(fx, ft, t, slope, x, xt, g)
+	case boxed:
+		return arcDecrease(fx, ft, t, slope, x, xt, g)
 	}
-	return armijoDecrease(fx, ft, t, slope)
+	return armijoDecrease(fx, ft, t, slope, x, xt, g)
 }
 
 // simpleDecrease accepts any decrease, f(x + t·d) < f(x). Simple decrease
 // does not guarantee convergence (Nocedal & Wright 2006, §3.1, the example
 // around Fig. 3.2), which is why the Armijo rule exists.
-func simpleDecrease(fx, ft, t, slope elem) bool {
+func simpleDecrease(fx, ft, t, slope elem, x, xt, g *vec) bool {
 	return ft < fx
 }
 
@@ -71,7 +75,7 @@ func simpleDecrease(fx, ft, t, slope elem) bool {
 //     first partial derivatives, Pacific J. Math. 16(1):1–3, 1966.
 //   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
 //     Springer, 2006, §3.1 and §3.5.
-func armijoDecrease(fx, ft, t, slope elem) bool {
+func armijoDecrease(fx, ft, t, slope elem, x, xt, g *vec) bool {
 	return ft <= fx+stepDecrease*t*slope // N&W eq. 3.4
 }
 

@@ -2,28 +2,31 @@ package templates
 
 import "math"
 
-// differences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// differences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type differences struct {
 	ratio     vec
 	curvature vec
 	second    vec // |f″| along e_i, for the rounding floor of a stall (see roundingFloor)
+	bounds    box
 }
 
-// derivative fills g with the gradient at x, where fx = f(x). It stands in
-// for the source the spec chose; gen keeps only that one under this name.
-// The kernel charges derivativeCost objective calls for each call.
-func derivative(recv *receiver, x *vec, fx elem, g *vec, diffs *differences) {
+// derivative fills g with the gradient at x, where fx = f(x), and returns
+// the objective calls it made: at most derivativeCost, fewer only for
+// variables fixed by equal bounds. It stands in for the source the spec
+// chose; gen keeps only that one under this name.
+func derivative(recv *receiver, x *vec, fx elem, g *vec, diffs *differences) int {
 	switch derivativeSource {
 	case sourceForward:
-		forwardDifference(recv, x, fx, g, diffs)
+		return forwardDifference(recv, x, fx, g, diffs)
 	case sourceCentral:
-		centralDifference(recv, x, fx, g, diffs)
+		return centralDifference(recv, x, fx, g, diffs)
 	default:
-		analyticGradient(recv, x, fx, g, diffs)
+		return analyticGradient(recv, x, fx, g, diffs)
 	}
 }
 
@@ -57,8 +60,9 @@ func gradientError(x *vec, fx elem, g, e *vec, diffs *differences) {
 }
 
 // analyticGradient calls the user's gradient; it costs no objective calls.
-func analyticGradient(recv *receiver, x *vec, fx elem, g *vec, diffs *differences) {
+func analyticGradient(recv *receiver, x *vec, fx elem, g *vec, diffs *differences) int {
 	recv.gradient(x, g)
+	return 0
 }
 
 // calibrateNothing: an analytic gradient needs no intervals.
@@ -102,10 +106,41 @@ func magnitude(v elem) elem {
 	return abs(v)
 }
 
-// probeStep returns x_i moved by h, and the step actually representable.
-func probeStep(xi, h elem) (elem, elem) {
-	moved := xi + h
+// probeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func probeStep(xi, h, lower, upper elem) (elem, elem) {
+	moved := clampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// parabola returns the first and second derivatives at 0 of the parabola
+// through (0, f0), (a, fa) and (b, fb), for probes on one side of a bound.
+// With b = 2a they are the three-point endpoint formulas
+// f′ ≈ (−3f0 + 4fa − fb)/(2a), error a²|f‴|/3, and
+// f″ ≈ (f0 − 2fa + fb)/a² (Burden & Faires, Numerical Analysis, §4.1
+// and §4.1's second-derivative formulas, from memory); written for unequal
+// a and b, so that the representable steps can be used.
+func parabola(f0, a, fa, b, fb elem) (slope, second elem) {
+	slope = -(a+b)/(a*b)*f0 + b/(a*(b-a))*fa - a/(b*(b-a))*fb
+	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
+	return slope, second
+}
+
+// sidedProbes evaluates f at x moved along coordinate i by h and by 2h,
+// kept within [lower, upper], and returns the slope and second derivative
+// of the parabola through them and (x, fx) (see parabola), and the larger
+// magnitude of the two values.
+func sidedProbes(recv *receiver, probe *vec, i int, fx, h, lower, upper elem) (slope, second, size elem) {
+	xi := probe[i]
+	near, a := probeStep(xi, h, lower, upper)
+	far, b := probeStep(xi, 2*h, lower, upper)
+	probe[i] = near
+	fNear := recv.objective(probe)
+	probe[i] = far
+	fFar := recv.objective(probe)
+	probe[i] = xi
+	slope, second = parabola(fx, a, fNear, b, fFar)
+	return slope, second, larger(magnitude(fNear), magnitude(fFar))
 }
 
 // calibrateForward chooses each forward-difference interval from the
@@ -133,19 +168,36 @@ func calibrateForward(recv *receiver, x *vec, fx elem, diffs *differences, budge
 	probe := *x
 	var slope vec
 	scale := abs(fx)
+	calls := 0
 	for i := range probe {
-		if 2*(i+1) > budget {
-			return 2 * i, false
+		if calls+2 > budget {
+			return calls, false
 		}
 		xi := probe[i]
 		bar := centralScale * larger(1, abs(xi))
-		up, hUp := probeStep(xi, bar)
+		lower, upper := coordinateRange(i, diffs)
+		if xi+bar > upper || xi-bar < lower {
+			// At a bound: two probes on the side with room, at h and 2h.
+			h := oneSide(xi, bar, 2, lower, upper)
+			if h == 0 {
+				continue // fixed by equal bounds
+			}
+			sided, second, size := sidedProbes(recv, &probe, i, fx, h, lower, upper)
+			calls += 2
+			scale = larger(scale, size)
+			if finite(sided) && finite(second) {
+				diffs.curvature[i], slope[i] = abs(second), sided
+			}
+			continue
+		}
+		up, hUp := probeStep(xi, bar, lower, upper)
+		down, hDown := probeStep(xi, -bar, lower, upper)
 		probe[i] = up
 		fUp := recv.objective(&probe)
-		down, hDown := probeStep(xi, -bar)
 		probe[i] = down
 		fDown := recv.objective(&probe)
 		probe[i] = xi
+		calls += 2
 		scale = larger(scale, larger(magnitude(fUp), magnitude(fDown)))
 		if finite(fUp) && finite(fDown) {
 			// f″ from the two one-sided slopes over the representable
@@ -167,7 +219,7 @@ func calibrateForward(recv *receiver, x *vec, fx elem, diffs *differences, budge
 		diffs.curvature[i] = second
 		diffs.second[i] = second
 	}
-	return 2 * len(probe), true
+	return calls, true
 }
 
 // calibrateCentral chooses each central-difference interval from the
@@ -189,19 +241,45 @@ func calibrateCentral(recv *receiver, x *vec, fx elem, diffs *differences, budge
 	var slope vec
 	scale := abs(fx)
 	quarter := squareRoot(squareRoot(unitRoundoff)) // u^(1/4)
+	calls := 0
 	for i := range probe {
-		if 4*(i+1) > budget {
-			return 4 * i, false
+		if calls+4 > budget {
+			return calls, false
 		}
 		xi := probe[i]
 		bar := quarter * larger(1, abs(xi))
+		lower, upper := coordinateRange(i, diffs)
+		if xi+2*bar > upper || xi-2*bar < lower {
+			// At a bound: three probes on the side with room, at h, 2h
+			// and 3h, for f‴ ≈ (f(3h) − 3f(2h) + 3f(h) − f(0))/h³ (the
+			// third forward difference).
+			h := oneSide(xi, bar, 3, lower, upper)
+			if h == 0 {
+				continue // fixed by equal bounds
+			}
+			var f [3]elem
+			for k := range f {
+				probe[i], _ = probeStep(xi, elem(k+1)*h, lower, upper)
+				f[k] = recv.objective(&probe)
+				scale = larger(scale, magnitude(f[k]))
+			}
+			probe[i] = xi
+			calls += 3
+			if finite(f[0]) && finite(f[1]) && finite(f[2]) {
+				diffs.curvature[i] = abs(f[2]-3*f[1]+3*f[0]-fx) / abs(h*h*h)
+				diffs.second[i] = abs(fx-2*f[0]+f[1]) / (h * h)
+				slope[i] = (-3*fx + 4*f[0] - f[1]) / (2 * h)
+			}
+			continue
+		}
 		var f [4]elem
 		for k, m := range [4]elem{2, 1, -1, -2} {
-			probe[i], _ = probeStep(xi, m*bar)
+			probe[i], _ = probeStep(xi, m*bar, lower, upper)
 			f[k] = recv.objective(&probe)
 			scale = larger(scale, magnitude(f[k]))
 		}
 		probe[i] = xi
+		calls += 4
 		if finite(f[0]) && finite(f[1]) && finite(f[2]) && finite(f[3]) {
 			diffs.curvature[i] = abs(f[0]-2*f[1]+2*f[2]-f[3]) / (2 * bar * bar * bar)
 			diffs.second[i] = abs(f[1]-2*fx+f[2]) / (bar * bar)
@@ -220,7 +298,7 @@ func calibrateCentral(recv *receiver, x *vec, fx elem, diffs *differences, budge
 		diffs.ratio[i] = clampBetween(h, 64*unitRoundoff*s, bar) / s
 		diffs.curvature[i] = third
 	}
-	return 4 * len(probe), true
+	return calls, true
 }
 
 // cubeRoot returns ∛v for v ≥ 0.
@@ -233,16 +311,35 @@ func cubeRoot(v elem) elem {
 //	g_i ≈ (f(x + h_i e_i) − f(x)) / h_i,
 //
 // with the intervals calibrateForward chose, h_i = ratio_i·max(1, |x_i|)
-// (Nocedal & Wright 2006, eq. 8.1). It costs dim objective calls.
-func forwardDifference(recv *receiver, x *vec, fx elem, g *vec, diffs *differences) {
+// (Nocedal & Wright 2006, eq. 8.1). It costs dim objective calls. Where
+// a bound leaves no room ahead the difference is taken backwards, over
+// the room there is when the box is narrower than h_i; a variable fixed
+// by equal bounds costs nothing and gets 0.
+func forwardDifference(recv *receiver, x *vec, fx elem, g *vec, diffs *differences) int {
 	probe := *x
+	calls := 0
 	for i := range probe {
 		xi := probe[i]
-		up, h := probeStep(xi, diffs.ratio[i]*larger(1, abs(xi)))
+		lower, upper := coordinateRange(i, diffs)
+		up, h := probeStep(xi, forwardInterval(x, i, diffs), lower, upper)
+		if h == 0 {
+			g[i] = 0 // fixed by equal bounds
+			continue
+		}
 		probe[i] = up
 		g[i] = (recv.objective(&probe) - fx) / h // N&W eq. 8.1, with the representable h
 		probe[i] = xi
+		calls++
 	}
+	return calls
+}
+
+// forwardInterval is the signed interval of coordinate i at x: ratio_i·
+// max(1, |x_i|) forwards, or backwards at an upper bound, shortened where
+// the box is narrower than that (see oneSide).
+func forwardInterval(x *vec, i int, diffs *differences) elem {
+	lower, upper := coordinateRange(i, diffs)
+	return oneSide(x[i], diffs.ratio[i]*larger(1, abs(x[i])), 1, lower, upper)
 }
 
 // forwardError bounds each forward difference's error by twice its
@@ -253,8 +350,11 @@ func forwardDifference(recv *receiver, x *vec, fx elem, g *vec, diffs *differenc
 func forwardError(x *vec, fx elem, g, e *vec, diffs *differences) {
 	noise := noiseLevel(x, fx, g)
 	for i := range e {
-		h := diffs.ratio[i] * larger(1, abs(x[i]))
-		e[i] = 2 * (h*diffs.curvature[i]/2 + 2*noise/h)
+		h := abs(forwardInterval(x, i, diffs))
+		e[i] = 0 // fixed by equal bounds
+		if h > 0 {
+			e[i] = 2 * (h*diffs.curvature[i]/2 + 2*noise/h)
+		}
 	}
 }
 
@@ -263,22 +363,50 @@ func forwardError(x *vec, fx elem, g, e *vec, diffs *differences) {
 //	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),
 //
 // with the intervals calibrateCentral chose, h_i = ratio_i·max(1, |x_i|)
-// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls; fx is
-// not needed.
-func centralDifference(recv *receiver, x *vec, fx elem, g *vec, diffs *differences) {
+// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls. Where
+// a bound leaves no room on one side, the three-point endpoint formula on
+// the other side takes its place at the same cost (see parabola); a
+// variable fixed by equal bounds costs nothing and gets 0.
+func centralDifference(recv *receiver, x *vec, fx elem, g *vec, diffs *differences) int {
 	probe := *x
+	calls := 0
 	for i := range probe {
 		xi := probe[i]
-		h := diffs.ratio[i] * larger(1, abs(xi))
-		up, _ := probeStep(xi, h)
-		down, _ := probeStep(xi, -h)
-		probe[i] = up
-		fUp := recv.objective(&probe)
-		probe[i] = down
-		fDown := recv.objective(&probe)
-		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
-		probe[i] = xi
+		h, oneSided := centralInterval(x, i, diffs)
+		lower, upper := coordinateRange(i, diffs)
+		switch {
+		case h == 0:
+			g[i] = 0 // fixed by equal bounds
+			continue
+		case oneSided:
+			g[i], _, _ = sidedProbes(recv, &probe, i, fx, h, lower, upper) // the three-point endpoint formula
+		default:
+			up, _ := probeStep(xi, h, lower, upper)
+			down, _ := probeStep(xi, -h, lower, upper)
+			probe[i] = up
+			fUp := recv.objective(&probe)
+			probe[i] = down
+			fDown := recv.objective(&probe)
+			g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+			probe[i] = xi
+		}
+		calls += 2
 	}
+	return calls
+}
+
+// centralInterval is the interval of coordinate i at x, ratio_i·max(1,
+// |x_i|), and whether the box leaves room for probes on both sides; when
+// it does not, the interval is signed towards the side with room for
+// probes at h and 2h, and shortened where the box is narrower than that
+// (see oneSide).
+func centralInterval(x *vec, i int, diffs *differences) (h elem, oneSided bool) {
+	lower, upper := coordinateRange(i, diffs)
+	h = diffs.ratio[i] * larger(1, abs(x[i]))
+	if x[i]+h <= upper && x[i]-h >= lower {
+		return h, false
+	}
+	return oneSide(x[i], h, 2, lower, upper), true
 }
 
 // centralError bounds each central difference's error by twice its
@@ -288,8 +416,16 @@ func centralDifference(recv *receiver, x *vec, fx elem, g *vec, diffs *differenc
 func centralError(x *vec, fx elem, g, e *vec, diffs *differences) {
 	noise := noiseLevel(x, fx, g)
 	for i := range e {
-		h := diffs.ratio[i] * larger(1, abs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		h, oneSided := centralInterval(x, i, diffs)
+		h = abs(h)
+		switch {
+		case h == 0:
+			e[i] = 0 // fixed by equal bounds
+		case oneSided:
+			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+		default:
+			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		}
 	}
 }
 
@@ -314,13 +450,13 @@ func confirmGradient(recv *receiver, x *vec, fx elem, g, e *vec, diffs *differen
 		wide.ratio[i] *= 2
 	}
 	var doubled vec
-	derivative(recv, x, fx, g, diffs)
-	derivative(recv, x, fx, &doubled, &wide)
+	calls += derivative(recv, x, fx, g, diffs)
+	calls += derivative(recv, x, fx, &doubled, &wide)
 	gradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * abs(g[i]-doubled[i])
 	}
-	return calls + 2*derivativeCost, true
+	return calls, true
 }
 
 // diagonalCurvature fills h with |∂²f/∂xᵢ²| at x, where the gradient is g,
@@ -343,11 +479,15 @@ func probedCurvature(recv *receiver, x, g *vec, diffs *differences, h *vec) {
 	var moved vec
 	for i := range probe {
 		xi := probe[i]
-		up, delta := probeStep(xi, squareRoot(unitRoundoff)*larger(1, abs(xi)))
-		probe[i] = up
-		recv.gradient(&probe, &moved)
-		h[i] = abs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := coordinateRange(i, diffs)
+		up, delta := probeStep(xi, oneSide(xi, squareRoot(unitRoundoff)*larger(1, abs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			recv.gradient(&probe, &moved)
+			h[i] = abs(moved[i]-g[i]) / abs(delta)
+			probe[i] = xi
+		}
 	}
 }
 

@@ -83,23 +83,24 @@ func faithfulStep(x, xt, d *vec, t elem) bool {
 	return true
 }
 
-// lineSearch looks along d from x, where f(x) = fx and the slope
-// ∇f(x)ᵀd < 0, starting with the trial step first and spending at most
+// lineSearch looks along d from x, where f(x) = fx, ∇f(x) = g and the
+// slope ∇f(x)ᵀd < 0, starting with the trial step first and spending at most
 // budget objective calls. Steps t ≤ tiny are below the step limit: after
 // at least one failed trial, a search that would have to try such a step
 // ends with searchTiny instead, since every step longer than the step
 // limit failed to decrease f. The kernel calls that convergence unless
 // the failed trials rose in proportion to the step (see riseTrend) with an
 // analytic gradient, which is then likely wrong. On acceptance xt holds
-// x + t·d (and gt its gradient when the result says so). It stands in for
+// x + t·d, projected onto the box when the spec has bounds (see
+// trialPoint), and gt its gradient when the result says so. It stands in for
 // the rule the spec chose; gen keeps only that one under this name.
-func lineSearch(recv *receiver, x *vec, fx elem, d *vec, slope, first, tiny elem, budget int, xt, gt *vec, diffs *differences) lineResult {
+func lineSearch(recv *receiver, x *vec, fx elem, g, d *vec, slope, first, tiny elem, budget int, xt, gt *vec, diffs *differences) lineResult {
 	switch stepRule {
 	case ruleFixed:
-		return fixedStep(recv, x, fx, d, slope, first, tiny, budget, xt, gt, diffs)
+		return fixedStep(recv, x, fx, g, d, slope, first, tiny, budget, xt, gt, diffs)
 	case ruleDecrease, ruleArmijo:
-		return backtrackSearch(recv, x, fx, d, slope, first, tiny, budget, xt, gt, diffs)
+		return backtrackSearch(recv, x, fx, g, d, slope, first, tiny, budget, xt, gt, diffs)
 	default:
-		return wolfeSearch(recv, x, fx, d, slope, first, tiny, budget, xt, gt, diffs)
+		return wolfeSearch(recv, x, fx, g, d, slope, first, tiny, budget, xt, gt, diffs)
 	}
 }

@@ -44,27 +44,27 @@ type outcome struct {
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func minimize(recv *receiver, x0 vec, lim limits) outcome {
-	out := outcome{x: x0, status: statusOutOfEvaluations, gradient: elem(math.NaN())}
+func minimize(recv *receiver, x0 vec, lim limits, bounds box) outcome {
+	x := x0
+	enterBox(&x, &bounds)
+	out := outcome{x: x, status: statusOutOfEvaluations, gradient: elem(math.NaN())}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := recv.objective(&x)
 	out.f, out.evaluations = fx, 1
 	if !finite(fx) || !finiteVec(&x) {
 		out.status = statusNonFiniteStart
 		return out
 	}
-	var diffs differences
+	diffs := differences{bounds: bounds}
 	calls, ok := calibrate(recv, &x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+derivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e vec
-	derivative(recv, &x, fx, &g, &diffs)
-	out.evaluations += derivativeCost
+	out.evaluations += derivative(recv, &x, fx, &g, &diffs)
 	observe(0, out.evaluations, &x, fx, &g, 0, 0)
 
 	if !finiteVec(&g) {
@@ -98,7 +98,7 @@ func minimize(recv *receiver, x0 vec, lim limits) outcome {
 		case !confirmed:
 			gradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := gradientMeasure(&g, &e, &x, fx)
+		measure, floor := stationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, larger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -137,16 +137,17 @@ func minimize(recv *receiver, x0 vec, lim limits) outcome {
 			if rises >= 8 {
 				return best.ending(statusDiverged, out.iterations, out.evaluations)
 			}
+			curvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(statusOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		searchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := dot(&g, &d)
 		if !(now < 0) || !finiteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			searchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = dot(&g, &d)
 		}
 		first := elem(stepInitial)
@@ -154,7 +155,7 @@ func minimize(recv *receiver, x0 vec, lim limits) outcome {
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := tinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := lineSearch(recv, &x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := lineSearch(recv, &x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case searchOutOfBudget:
@@ -190,8 +191,7 @@ func minimize(recv *receiver, x0 vec, lim limits) outcome {
 				}
 				return best.ending(statusOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			derivative(recv, &xt, found.value, &gt, &diffs)
-			out.evaluations += derivativeCost
+			out.evaluations += derivative(recv, &xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		difference(&s, &xt, &x)

@@ -38,7 +38,7 @@ func TestEveryPolicyConverges(t *testing.T) {
 				p.use(t)
 				recv := prob.make()
 				lim := defaultLimits()
-				out := minimize(recv, prob.start, lim)
+				out := minimize(recv, prob.start, lim, box{})
 				if out.status != statusGradientSmall {
 					t.Fatalf("status %d after %d iterations, %d calls, x = %v, f = %g, gradient %g over limit %g", out.status, out.iterations, out.evaluations, out.x, out.f, out.gradient, out.gradientLimit)
 				}
@@ -75,7 +75,7 @@ func TestFixedStepMatchesClosedForm(t *testing.T) {
 		gradientFunc: func(x, g *vec) { g[0], g[1] = a*x[0], b*x[1] },
 	}
 	lim := limits{Gradient: -1, Step: -1, Iterations: 7, Evaluations: 100}
-	out := minimize(recv, vec{2, 3}, lim)
+	out := minimize(recv, vec{2, 3}, lim, box{})
 	if out.status != statusOutOfIterations || out.iterations != 7 {
 		t.Fatalf("status %d after %d iterations", out.status, out.iterations)
 	}
@@ -98,7 +98,7 @@ func TestFixedStepDivergesAndStops(t *testing.T) {
 		valueFunc:    func(x *vec) elem { return 2 * (x[0]*x[0] + x[1]*x[1]) },
 		gradientFunc: func(x, g *vec) { g[0], g[1] = 4*x[0], 4*x[1] },
 	}
-	out := minimize(recv, vec{1, 1}, defaultLimits())
+	out := minimize(recv, vec{1, 1}, defaultLimits(), box{})
 	if out.status != statusDiverged {
 		t.Fatalf("status %d, want diverged", out.status)
 	}
@@ -108,7 +108,7 @@ func TestFixedStepDivergesAndStops(t *testing.T) {
 	// A value that overflows before eight rises is divergence too.
 	recv.valueFunc = func(x *vec) elem { return 1e300 * (x[0]*x[0] + x[1]*x[1]) }
 	recv.gradientFunc = func(x, g *vec) { g[0], g[1] = 2e300*x[0], 2e300*x[1] }
-	if out := minimize(recv, vec{1, 1}, defaultLimits()); out.status != statusDiverged || out.x != (vec{1, 1}) {
+	if out := minimize(recv, vec{1, 1}, defaultLimits(), box{}); out.status != statusDiverged || out.x != (vec{1, 1}) {
 		t.Errorf("overflow: status %d at x = %v, want diverged at the start", out.status, out.x)
 	}
 }
@@ -121,12 +121,12 @@ func TestEvaluationCapIsNeverExceeded(t *testing.T) {
 	for _, p := range everyPolicy() {
 		t.Run(p.String(), func(t *testing.T) {
 			p.use(t)
-			needed := minimize(rosenbrock(), vec{-1.2, 1}, defaultLimits()).evaluations
+			needed := minimize(rosenbrock(), vec{-1.2, 1}, defaultLimits(), box{}).evaluations
 			for cap := 0; cap < needed; cap += 1 + cap/40 {
 				recv := rosenbrock()
 				lim := defaultLimits()
 				lim.Evaluations = cap
-				out := minimize(recv, vec{-1.2, 1}, lim)
+				out := minimize(recv, vec{-1.2, 1}, lim, box{})
 				if recv.calls > cap || out.evaluations != recv.calls {
 					t.Fatalf("cap %d: %d calls, %d reported", cap, recv.calls, out.evaluations)
 				}
@@ -145,7 +145,7 @@ func TestNonFiniteValues(t *testing.T) {
 			p.use(t)
 			nan := math.NaN()
 			start := rosenbrock()
-			if out := minimize(start, vec{nan, 1}, defaultLimits()); out.status != statusNonFiniteStart {
+			if out := minimize(start, vec{nan, 1}, defaultLimits(), box{}); out.status != statusNonFiniteStart {
 				t.Errorf("NaN start: status %d", out.status)
 			}
 			wall := rosenbrock() // +Inf everywhere but the start
@@ -157,12 +157,12 @@ func TestNonFiniteValues(t *testing.T) {
 				return math.Inf(1)
 			}
 			if p.source == sourceAnalytic {
-				out := minimize(wall, vec{-1.2, 1}, defaultLimits())
+				out := minimize(wall, vec{-1.2, 1}, defaultLimits(), box{})
 				if out.status != statusNoAcceptableStep || out.evaluations > 1+stepTrials {
 					t.Errorf("Inf trials: status %d after %d calls", out.status, out.evaluations)
 				}
 			} else {
-				out := minimize(wall, vec{-1.2, 1}, defaultLimits())
+				out := minimize(wall, vec{-1.2, 1}, defaultLimits(), box{})
 				if out.status != statusNonFiniteGradient {
 					t.Errorf("Inf in differences: status %d", out.status)
 				}
@@ -170,7 +170,7 @@ func TestNonFiniteValues(t *testing.T) {
 			if p.source == sourceAnalytic {
 				badGradient := rosenbrock()
 				badGradient.gradientFunc = func(x, g *vec) { g[0], g[1] = nan, 0 }
-				if out := minimize(badGradient, vec{-1.2, 1}, defaultLimits()); out.status != statusNonFiniteGradient {
+				if out := minimize(badGradient, vec{-1.2, 1}, defaultLimits(), box{}); out.status != statusNonFiniteGradient {
 					t.Errorf("NaN gradient: status %d", out.status)
 				}
 			}
@@ -236,7 +236,7 @@ func TestExactMinimumWithDifferencesConvergesToTheirAccuracy(t *testing.T) {
 			lim := defaultLimits()
 			lim.Gradient = 1e-12
 			lim.Step = 1e-10
-			out := minimize(ellipse(), vec{3, -1}, lim)
+			out := minimize(ellipse(), vec{3, -1}, lim, box{})
 			if out.status != statusGradientSmall || out.iterations != 0 || !(out.gradientLimit > lim.Gradient) {
 				t.Fatalf("status %d after %d iterations, limit %g: want converged at once, with the limit raised", out.status, out.iterations, out.gradientLimit)
 			}
@@ -277,7 +277,7 @@ func TestWrongGradientNeverConvergesAway(t *testing.T) {
 				t.Run(fmt.Sprintf("%s/%s/%v", p, w.name, start), func(t *testing.T) {
 					p.use(t)
 					recv := &receiver{valueFunc: w.value, gradientFunc: w.gradient}
-					out := minimize(recv, start, defaultLimits())
+					out := minimize(recv, start, defaultLimits(), box{})
 					away := math.Abs(out.x[0]-w.min[0]) > 1e-4 || math.Abs(out.x[1]-w.min[1]) > 1e-4
 					if out.status == statusGradientSmall && away {
 						t.Fatalf("status %d (converged) at x = %v after %d iterations, from a wrong gradient", out.status, out.x, out.iterations)
@@ -310,7 +310,7 @@ func TestBadlyScaledExactGradientIsNotContradicted(t *testing.T) {
 		}
 		t.Run(p.String(), func(t *testing.T) {
 			p.use(t)
-			out := minimize(recv, vec{1.0645067985197222e6, 3.07036456363477e-6}, defaultLimits())
+			out := minimize(recv, vec{1.0645067985197222e6, 3.07036456363477e-6}, defaultLimits(), box{})
 			if out.status == statusNoDecrease {
 				t.Errorf("no decrease at x = %v, f = %g, with the exact gradient", out.x, out.f)
 			}
@@ -372,7 +372,7 @@ func TestNoisyMinimumStallsWithoutBlamingTheGradient(t *testing.T) {
 			lim.Gradient = 1e-14 // below what the noise allows: the run must end on the step limit
 			for k := 0; k < 12; k++ {
 				start := vec{x1 + elem(k%4) - 1.5, x2 + elem(k/4) - 1}
-				out := minimize(recv, start, lim)
+				out := minimize(recv, start, lim, box{})
 				if out.status != statusStalled && out.status != statusGradientSmall {
 					t.Errorf("from %v: status %d after %d iterations, f = %g", start, out.status, out.iterations, out.f)
 				}
@@ -426,7 +426,7 @@ func TestProportionalRiseOutlastsRounding(t *testing.T) {
 	recv := rosenbrock()
 	exact := recv.gradientFunc
 	recv.gradientFunc = func(x, g *vec) { exact(x, g); g[1] *= 1.1 }
-	out := minimize(recv, vec{2.728413826766369, 2.845310935799424}, defaultLimits())
+	out := minimize(recv, vec{2.728413826766369, 2.845310935799424}, defaultLimits(), box{})
 	away := math.Abs(out.x[0]-1) > 1e-4 || math.Abs(out.x[1]-1) > 1e-4
 	if out.status == statusGradientSmall && away {
 		t.Fatalf("status %d (converged) at x = %v, from a wrong gradient", out.status, out.x)

@@ -17,6 +17,8 @@ const (
 	largestFinite = 0x1.fffffffffffffp1023 // the largest finite float64
 
 	lbfgsMemory = 5 // L-BFGS correction pairs
+
+	activeMargin = 1e-3 // ε̄ of the ε-active set at a bound (see boundDirection)
 )
 
 // Selectors used only by this package's tests to pick among the
@@ -27,7 +29,8 @@ var (
 	stepRule         = ruleArmijo
 	backtrackKind    = backtrackShrink
 	gradientTest     = testRelative
-	derivativeCost   = 0 // objective calls per gradient, set with derivativeSource
+	derivativeCost   = 0     // objective calls per gradient, set with derivativeSource
+	boxed            = false // whether the spec has bounds
 )
 
 // Alternatives for the selectors above.

@@ -20,7 +20,10 @@ type linePoint struct {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (stepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -29,13 +32,17 @@ type linePoint struct {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func wolfeSearch(recv *receiver, x *vec, fx elem, d *vec, slope, first, tiny elem, budget int, xt, gt *vec, diffs *differences) lineResult {
+func wolfeSearch(recv *receiver, x *vec, fx elem, g, d *vec, slope, first, tiny elem, budget int, xt, gt *vec, diffs *differences) lineResult {
 	low := linePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high linePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient vec                                       // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
 	var trend riseTrend // of the trials failing sufficient decrease
+	limit := stepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < stepTrials; trial++ {
 		if bracketed && abs(high.step-low.step) <= tiny {
@@ -45,12 +52,12 @@ func wolfeSearch(recv *receiver, x *vec, fx elem, d *vec, slope, first, tiny ele
 			if low.step == 0 {
 				return lineResult{calls: calls, rising: trend.contradicts(), end: tinyOrExhausted(finite(high.value))}
 			}
-			return acceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return acceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return lineResult{calls: calls, end: searchOutOfBudget}
 		}
-		moveTo(xt, x, t, d)
+		trialPoint(xt, x, t, d, &diffs.bounds)
 		current := linePoint{step: t, value: recv.objective(xt)}
 		calls++
 		previous := low
@@ -61,8 +68,7 @@ func wolfeSearch(recv *receiver, x *vec, fx elem, d *vec, slope, first, tiny ele
 			if calls+derivativeCost > budget {
 				return lineResult{calls: calls, end: searchOutOfBudget}
 			}
-			derivative(recv, xt, current.value, gt, diffs)
-			calls += derivativeCost
+			calls += derivative(recv, xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = dot(gt, d), true
 			switch {
 			case !finite(current.slope):
@@ -73,18 +79,22 @@ func wolfeSearch(recv *receiver, x *vec, fx elem, d *vec, slope, first, tiny ele
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return lineResult{step: t, value: current.value, calls: calls, gradient: true, end: searchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = zoomTrial(&low, &high)
-		} else {
-			t = expandTrial(&previous, &current)
+		} else if t = expandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return acceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return acceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return lineResult{calls: calls, rising: trend.contradicts(), end: searchExhausted}
 }
@@ -94,8 +104,8 @@ func wolfeSearch(recv *receiver, x *vec, fx elem, d *vec, slope, first, tiny ele
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func acceptLow(x, d *vec, low *linePoint, lowGradient *vec, calls int, xt, gt *vec) lineResult {
-	moveTo(xt, x, low.step, d)
+func acceptLow(x, d *vec, low *linePoint, lowGradient *vec, calls int, xt, gt *vec, diffs *differences) lineResult {
+	trialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return lineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: searchAccepted}
 }

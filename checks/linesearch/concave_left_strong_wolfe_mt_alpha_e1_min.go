@@ -88,6 +88,9 @@ func ConcaveLeftStrongWolfeMTAlphaE1DefaultLimits() ConcaveLeftStrongWolfeMTAlph
 	}
 }
 
+// concaveLeftStrongWolfeMTAlphaE1Box is empty: linesearch.toml sets no bounds on ConcaveLeftStrongWolfeMTAlphaE1.
+type concaveLeftStrongWolfeMTAlphaE1Box struct{}
+
 // ConcaveLeftStrongWolfeMTAlphaE1 minimizes ConcaveLeft from x0, as linesearch.toml specifies.
 //
 // Direction steepest: steepest descent, d = −∇f; no memory, linear convergence.
@@ -105,7 +108,7 @@ func ConcaveLeftStrongWolfeMTAlphaE1(x0 float64) ConcaveLeftStrongWolfeMTAlphaE1
 
 // ConcaveLeftStrongWolfeMTAlphaE1WithLimits is ConcaveLeftStrongWolfeMTAlphaE1 with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func ConcaveLeftStrongWolfeMTAlphaE1WithLimits(x0 float64, limits ConcaveLeftStrongWolfeMTAlphaE1Limits) ConcaveLeftStrongWolfeMTAlphaE1Result {
-	out := concaveLeftStrongWolfeMTAlphaE1Minimize([1]float64{x0}, limits)
+	out := concaveLeftStrongWolfeMTAlphaE1Minimize([1]float64{x0}, limits, concaveLeftStrongWolfeMTAlphaE1Box{})
 	return ConcaveLeftStrongWolfeMTAlphaE1Result{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func concaveLeftStrongWolfeMTAlphaE1Minimize(x0 [1]float64, lim ConcaveLeftStrongWolfeMTAlphaE1Limits) concaveLeftStrongWolfeMTAlphaE1Outcome {
-	out := concaveLeftStrongWolfeMTAlphaE1Outcome{x: x0, status: ConcaveLeftStrongWolfeMTAlphaE1OutOfEvaluations, gradient: math.NaN()}
+func concaveLeftStrongWolfeMTAlphaE1Minimize(x0 [1]float64, lim ConcaveLeftStrongWolfeMTAlphaE1Limits, bounds concaveLeftStrongWolfeMTAlphaE1Box) concaveLeftStrongWolfeMTAlphaE1Outcome {
+	x := x0
+	concaveLeftStrongWolfeMTAlphaE1EnterBox(&x, &bounds)
+	out := concaveLeftStrongWolfeMTAlphaE1Outcome{x: x, status: ConcaveLeftStrongWolfeMTAlphaE1OutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := ConcaveLeft(x[0])
 	out.f, out.evaluations = fx, 1
 	if !concaveLeftStrongWolfeMTAlphaE1Finite(fx) || !concaveLeftStrongWolfeMTAlphaE1FiniteVec(&x) {
 		out.status = ConcaveLeftStrongWolfeMTAlphaE1NonFiniteStart
 		return out
 	}
-	var diffs concaveLeftStrongWolfeMTAlphaE1Differences
+	diffs := concaveLeftStrongWolfeMTAlphaE1Differences{bounds: bounds}
 	calls, ok := concaveLeftStrongWolfeMTAlphaE1Calibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+concaveLeftStrongWolfeMTAlphaE1DerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [1]float64
-	concaveLeftStrongWolfeMTAlphaE1Derivative(&x, fx, &g, &diffs)
-	out.evaluations += concaveLeftStrongWolfeMTAlphaE1DerivativeCost
+	out.evaluations += concaveLeftStrongWolfeMTAlphaE1Derivative(&x, fx, &g, &diffs)
 
 	if !concaveLeftStrongWolfeMTAlphaE1FiniteVec(&g) {
 		out.status = ConcaveLeftStrongWolfeMTAlphaE1NonFiniteGradient
@@ -211,7 +214,7 @@ func concaveLeftStrongWolfeMTAlphaE1Minimize(x0 [1]float64, lim ConcaveLeftStron
 		case !confirmed:
 			concaveLeftStrongWolfeMTAlphaE1GradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := concaveLeftStrongWolfeMTAlphaE1GradientMeasure(&g, &e, &x, fx)
+		measure, floor := concaveLeftStrongWolfeMTAlphaE1Stationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, concaveLeftStrongWolfeMTAlphaE1Larger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func concaveLeftStrongWolfeMTAlphaE1Minimize(x0 [1]float64, lim ConcaveLeftStron
 			if rises >= 8 {
 				return best.ending(ConcaveLeftStrongWolfeMTAlphaE1Diverged, out.iterations, out.evaluations)
 			}
+			concaveLeftStrongWolfeMTAlphaE1CurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(ConcaveLeftStrongWolfeMTAlphaE1OutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		concaveLeftStrongWolfeMTAlphaE1SearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := concaveLeftStrongWolfeMTAlphaE1Dot(&g, &d)
 		if !(now < 0) || !concaveLeftStrongWolfeMTAlphaE1FiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			concaveLeftStrongWolfeMTAlphaE1SearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = concaveLeftStrongWolfeMTAlphaE1Dot(&g, &d)
 		}
 		first := float64(concaveLeftStrongWolfeMTAlphaE1StepInitial)
@@ -267,7 +271,7 @@ func concaveLeftStrongWolfeMTAlphaE1Minimize(x0 [1]float64, lim ConcaveLeftStron
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := concaveLeftStrongWolfeMTAlphaE1TinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := concaveLeftStrongWolfeMTAlphaE1LineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := concaveLeftStrongWolfeMTAlphaE1LineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case concaveLeftStrongWolfeMTAlphaE1SearchOutOfBudget:
@@ -303,8 +307,7 @@ func concaveLeftStrongWolfeMTAlphaE1Minimize(x0 [1]float64, lim ConcaveLeftStron
 				}
 				return best.ending(ConcaveLeftStrongWolfeMTAlphaE1OutOfEvaluations, out.iterations, out.evaluations)
 			}
-			concaveLeftStrongWolfeMTAlphaE1Derivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += concaveLeftStrongWolfeMTAlphaE1DerivativeCost
+			out.evaluations += concaveLeftStrongWolfeMTAlphaE1Derivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		concaveLeftStrongWolfeMTAlphaE1Difference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o concaveLeftStrongWolfeMTAlphaE1Outcome) ending(end ConcaveLeftStrongWolf
 	return o
 }
 
+// concaveLeftStrongWolfeMTAlphaE1EnterBox: without bounds every start is inside.
+func concaveLeftStrongWolfeMTAlphaE1EnterBox(x *[1]float64, b *concaveLeftStrongWolfeMTAlphaE1Box) {}
+
 // concaveLeftStrongWolfeMTAlphaE1Finite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func concaveLeftStrongWolfeMTAlphaE1FiniteVec(x *[1]float64) bool {
 	return true
 }
 
-// concaveLeftStrongWolfeMTAlphaE1Differences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// concaveLeftStrongWolfeMTAlphaE1Differences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type concaveLeftStrongWolfeMTAlphaE1Differences struct {
 	ratio     [1]float64
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see concaveLeftStrongWolfeMTAlphaE1RoundingFloor)
+	bounds    concaveLeftStrongWolfeMTAlphaE1Box
 }
 
 // concaveLeftStrongWolfeMTAlphaE1Calibrate: an analytic gradient needs no intervals.
@@ -384,8 +392,9 @@ func concaveLeftStrongWolfeMTAlphaE1Calibrate(x *[1]float64, fx float64, diffs *
 }
 
 // concaveLeftStrongWolfeMTAlphaE1Derivative calls the user's gradient; it costs no objective calls.
-func concaveLeftStrongWolfeMTAlphaE1Derivative(x *[1]float64, fx float64, g *[1]float64, diffs *concaveLeftStrongWolfeMTAlphaE1Differences) {
+func concaveLeftStrongWolfeMTAlphaE1Derivative(x *[1]float64, fx float64, g *[1]float64, diffs *concaveLeftStrongWolfeMTAlphaE1Differences) int {
 	g[0] = ConcaveLeftDeriv(x[0])
+	return 0
 }
 
 // concaveLeftStrongWolfeMTAlphaE1Direction is steepest descent, d = −∇f(x): the direction of
@@ -401,8 +410,22 @@ func (s *concaveLeftStrongWolfeMTAlphaE1Direction) compute(g, d *[1]float64) {
 
 func (s *concaveLeftStrongWolfeMTAlphaE1Direction) update(step, change *[1]float64) {}
 
+// firstTrial is the scaled trial (concaveLeftStrongWolfeMTAlphaE1ScaledTrial), grown at most by
+// 2^(concaveLeftStrongWolfeMTAlphaE1StepTrials/2) over the previous step t. Steepest descent is the one
+// direction paired with backtracking that scales its first trial, and
+// backtracking can only shrink: after a step that nearly solved the
+// problem the slope collapses, the ratio can exceed the range its trials
+// halve through, and the search would end with no acceptable step. The
+// cap keeps at least half the trials below the previous step (a safeguard
+// of our own; cg, whose ratios can legitimately be that large on badly
+// scaled problems, always pairs with a Wolfe search, which expands and
+// zooms instead).
 func (s *concaveLeftStrongWolfeMTAlphaE1Direction) firstTrial(t, slope, now float64) float64 {
-	return concaveLeftStrongWolfeMTAlphaE1ScaledTrial(t, slope, now)
+	next := concaveLeftStrongWolfeMTAlphaE1ScaledTrial(t, slope, now)
+	if reach := t * math.Ldexp(1, concaveLeftStrongWolfeMTAlphaE1StepTrials/2); next > reach {
+		return reach
+	}
+	return next
 }
 
 // concaveLeftStrongWolfeMTAlphaE1Negate sets out = −x.
@@ -471,13 +494,13 @@ func concaveLeftStrongWolfeMTAlphaE1ConfirmGradient(x *[1]float64, fx float64, g
 		wide.ratio[i] *= 2
 	}
 	var doubled [1]float64
-	concaveLeftStrongWolfeMTAlphaE1Derivative(x, fx, g, diffs)
-	concaveLeftStrongWolfeMTAlphaE1Derivative(x, fx, &doubled, &wide)
+	calls += concaveLeftStrongWolfeMTAlphaE1Derivative(x, fx, g, diffs)
+	calls += concaveLeftStrongWolfeMTAlphaE1Derivative(x, fx, &doubled, &wide)
 	concaveLeftStrongWolfeMTAlphaE1GradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * concaveLeftStrongWolfeMTAlphaE1Abs(g[i]-doubled[i])
 	}
-	return calls + 2*concaveLeftStrongWolfeMTAlphaE1DerivativeCost, true
+	return calls, true
 }
 
 // concaveLeftStrongWolfeMTAlphaE1GradientError: the analytic gradient is taken as exact; its error is
@@ -519,18 +542,60 @@ func concaveLeftStrongWolfeMTAlphaE1DiagonalCurvature(x, g *[1]float64, diffs *c
 	var moved [1]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := concaveLeftStrongWolfeMTAlphaE1ProbeStep(xi, concaveLeftStrongWolfeMTAlphaE1SquareRoot(concaveLeftStrongWolfeMTAlphaE1UnitRoundoff)*concaveLeftStrongWolfeMTAlphaE1Larger(1, concaveLeftStrongWolfeMTAlphaE1Abs(xi)))
-		probe[i] = up
-		moved[0] = ConcaveLeftDeriv(probe[0])
-		h[i] = concaveLeftStrongWolfeMTAlphaE1Abs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := concaveLeftStrongWolfeMTAlphaE1CoordinateRange(i, diffs)
+		up, delta := concaveLeftStrongWolfeMTAlphaE1ProbeStep(xi, concaveLeftStrongWolfeMTAlphaE1OneSide(xi, concaveLeftStrongWolfeMTAlphaE1SquareRoot(concaveLeftStrongWolfeMTAlphaE1UnitRoundoff)*concaveLeftStrongWolfeMTAlphaE1Larger(1, concaveLeftStrongWolfeMTAlphaE1Abs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			moved[0] = ConcaveLeftDeriv(probe[0])
+			h[i] = concaveLeftStrongWolfeMTAlphaE1Abs(moved[i]-g[i]) / concaveLeftStrongWolfeMTAlphaE1Abs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// concaveLeftStrongWolfeMTAlphaE1ProbeStep returns x_i moved by h, and the step actually representable.
-func concaveLeftStrongWolfeMTAlphaE1ProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// concaveLeftStrongWolfeMTAlphaE1CoordinateRange: without bounds any probe is allowed.
+func concaveLeftStrongWolfeMTAlphaE1CoordinateRange(i int, diffs *concaveLeftStrongWolfeMTAlphaE1Differences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// concaveLeftStrongWolfeMTAlphaE1ProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func concaveLeftStrongWolfeMTAlphaE1ProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := concaveLeftStrongWolfeMTAlphaE1ClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// concaveLeftStrongWolfeMTAlphaE1ClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func concaveLeftStrongWolfeMTAlphaE1ClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// concaveLeftStrongWolfeMTAlphaE1OneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func concaveLeftStrongWolfeMTAlphaE1OneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // concaveLeftStrongWolfeMTAlphaE1SquareRoot returns √v.
@@ -546,6 +611,11 @@ func concaveLeftStrongWolfeMTAlphaE1Larger(a, b float64) float64 {
 		return a
 	}
 	return b
+}
+
+// concaveLeftStrongWolfeMTAlphaE1Stationarity measures the gradient itself.
+func concaveLeftStrongWolfeMTAlphaE1Stationarity(g, e, x *[1]float64, fx float64, b *concaveLeftStrongWolfeMTAlphaE1Box) (measure, floor float64) {
+	return concaveLeftStrongWolfeMTAlphaE1GradientMeasure(g, e, x, fx)
 }
 
 // concaveLeftStrongWolfeMTAlphaE1GradientMeasure is the scale-free measure
@@ -579,6 +649,15 @@ func concaveLeftStrongWolfeMTAlphaE1StepWithin(s, x *[1]float64, tol float64) bo
 		}
 	}
 	return true
+}
+
+// concaveLeftStrongWolfeMTAlphaE1CurvaturePair: without bounds the pair is used as it is.
+func concaveLeftStrongWolfeMTAlphaE1CurvaturePair(s, y, x *[1]float64, b *concaveLeftStrongWolfeMTAlphaE1Box) {
+}
+
+// concaveLeftStrongWolfeMTAlphaE1SearchDirection is the direction's own.
+func concaveLeftStrongWolfeMTAlphaE1SearchDirection(dir *concaveLeftStrongWolfeMTAlphaE1Direction, x, g, d *[1]float64, b *concaveLeftStrongWolfeMTAlphaE1Box) {
+	dir.compute(g, d)
 }
 
 // concaveLeftStrongWolfeMTAlphaE1Dot returns aᵀb.
@@ -617,7 +696,10 @@ func concaveLeftStrongWolfeMTAlphaE1TinyStep(x, d *[1]float64, tol float64) floa
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (concaveLeftStrongWolfeMTAlphaE1StepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -626,13 +708,17 @@ func concaveLeftStrongWolfeMTAlphaE1TinyStep(x, d *[1]float64, tol float64) floa
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func concaveLeftStrongWolfeMTAlphaE1LineSearch(x *[1]float64, fx float64, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *concaveLeftStrongWolfeMTAlphaE1Differences) concaveLeftStrongWolfeMTAlphaE1LineResult {
+func concaveLeftStrongWolfeMTAlphaE1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *concaveLeftStrongWolfeMTAlphaE1Differences) concaveLeftStrongWolfeMTAlphaE1LineResult {
 	low := concaveLeftStrongWolfeMTAlphaE1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveLeftStrongWolfeMTAlphaE1LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                               // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend concaveLeftStrongWolfeMTAlphaE1RiseTrend // of the trials failing sufficient decrease
+	var trend concaveLeftStrongWolfeMTAlphaE1RiseTrend                         // of the trials failing sufficient decrease
+	limit := concaveLeftStrongWolfeMTAlphaE1StepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < concaveLeftStrongWolfeMTAlphaE1StepTrials; trial++ {
 		if bracketed && concaveLeftStrongWolfeMTAlphaE1Abs(high.step-low.step) <= tiny {
@@ -642,12 +728,12 @@ func concaveLeftStrongWolfeMTAlphaE1LineSearch(x *[1]float64, fx float64, d *[1]
 			if low.step == 0 {
 				return concaveLeftStrongWolfeMTAlphaE1LineResult{calls: calls, rising: trend.contradicts(), end: concaveLeftStrongWolfeMTAlphaE1TinyOrExhausted(concaveLeftStrongWolfeMTAlphaE1Finite(high.value))}
 			}
-			return concaveLeftStrongWolfeMTAlphaE1AcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return concaveLeftStrongWolfeMTAlphaE1AcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return concaveLeftStrongWolfeMTAlphaE1LineResult{calls: calls, end: concaveLeftStrongWolfeMTAlphaE1SearchOutOfBudget}
 		}
-		concaveLeftStrongWolfeMTAlphaE1MoveTo(xt, x, t, d)
+		concaveLeftStrongWolfeMTAlphaE1TrialPoint(xt, x, t, d, &diffs.bounds)
 		current := concaveLeftStrongWolfeMTAlphaE1LinePoint{step: t, value: ConcaveLeft(xt[0])}
 		calls++
 		previous := low
@@ -658,8 +744,7 @@ func concaveLeftStrongWolfeMTAlphaE1LineSearch(x *[1]float64, fx float64, d *[1]
 			if calls+concaveLeftStrongWolfeMTAlphaE1DerivativeCost > budget {
 				return concaveLeftStrongWolfeMTAlphaE1LineResult{calls: calls, end: concaveLeftStrongWolfeMTAlphaE1SearchOutOfBudget}
 			}
-			concaveLeftStrongWolfeMTAlphaE1Derivative(xt, current.value, gt, diffs)
-			calls += concaveLeftStrongWolfeMTAlphaE1DerivativeCost
+			calls += concaveLeftStrongWolfeMTAlphaE1Derivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = concaveLeftStrongWolfeMTAlphaE1Dot(gt, d), true
 			switch {
 			case !concaveLeftStrongWolfeMTAlphaE1Finite(current.slope):
@@ -670,18 +755,22 @@ func concaveLeftStrongWolfeMTAlphaE1LineSearch(x *[1]float64, fx float64, d *[1]
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return concaveLeftStrongWolfeMTAlphaE1LineResult{step: t, value: current.value, calls: calls, gradient: true, end: concaveLeftStrongWolfeMTAlphaE1SearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = concaveLeftStrongWolfeMTAlphaE1ZoomTrial(&low, &high)
-		} else {
-			t = concaveLeftStrongWolfeMTAlphaE1ExpandTrial(&previous, &current)
+		} else if t = concaveLeftStrongWolfeMTAlphaE1ExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return concaveLeftStrongWolfeMTAlphaE1AcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return concaveLeftStrongWolfeMTAlphaE1AcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return concaveLeftStrongWolfeMTAlphaE1LineResult{calls: calls, rising: trend.contradicts(), end: concaveLeftStrongWolfeMTAlphaE1SearchExhausted}
 }
@@ -768,6 +857,11 @@ func concaveLeftStrongWolfeMTAlphaE1FaithfulStep(x, xt, d *[1]float64, t float64
 	return true
 }
 
+// concaveLeftStrongWolfeMTAlphaE1StepCap: without bounds a step may be as long as the search wants.
+func concaveLeftStrongWolfeMTAlphaE1StepCap(x, d *[1]float64, tiny float64, b *concaveLeftStrongWolfeMTAlphaE1Box) float64 {
+	return math.Inf(1)
+}
+
 // concaveLeftStrongWolfeMTAlphaE1TinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -792,10 +886,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func concaveLeftStrongWolfeMTAlphaE1AcceptLow(x, d *[1]float64, low *concaveLeftStrongWolfeMTAlphaE1LinePoint, lowGradient *[1]float64, calls int, xt, gt *[1]float64) concaveLeftStrongWolfeMTAlphaE1LineResult {
-	concaveLeftStrongWolfeMTAlphaE1MoveTo(xt, x, low.step, d)
+func concaveLeftStrongWolfeMTAlphaE1AcceptLow(x, d *[1]float64, low *concaveLeftStrongWolfeMTAlphaE1LinePoint, lowGradient *[1]float64, calls int, xt, gt *[1]float64, diffs *concaveLeftStrongWolfeMTAlphaE1Differences) concaveLeftStrongWolfeMTAlphaE1LineResult {
+	concaveLeftStrongWolfeMTAlphaE1TrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return concaveLeftStrongWolfeMTAlphaE1LineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: concaveLeftStrongWolfeMTAlphaE1SearchAccepted}
+}
+
+// concaveLeftStrongWolfeMTAlphaE1TrialPoint is x + t·d.
+func concaveLeftStrongWolfeMTAlphaE1TrialPoint(out, x *[1]float64, t float64, d *[1]float64, b *concaveLeftStrongWolfeMTAlphaE1Box) {
+	concaveLeftStrongWolfeMTAlphaE1MoveTo(out, x, t, d)
 }
 
 // concaveLeftStrongWolfeMTAlphaE1MoveTo sets out = x + t·d.
@@ -850,21 +949,6 @@ func concaveLeftStrongWolfeMTAlphaE1ModelMinimizer(a, b *concaveLeftStrongWolfeM
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, concaveLeftStrongWolfeMTAlphaE1Finite(t)
-}
-
-// concaveLeftStrongWolfeMTAlphaE1ClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func concaveLeftStrongWolfeMTAlphaE1ClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // concaveLeftStrongWolfeMTAlphaE1ExpandTrial picks a larger trial after current met sufficient decrease

@@ -88,6 +88,9 @@ func ConcaveLeftStrongWolfeMTAlphaE3DefaultLimits() ConcaveLeftStrongWolfeMTAlph
 	}
 }
 
+// concaveLeftStrongWolfeMTAlphaE3Box is empty: linesearch.toml sets no bounds on ConcaveLeftStrongWolfeMTAlphaE3.
+type concaveLeftStrongWolfeMTAlphaE3Box struct{}
+
 // ConcaveLeftStrongWolfeMTAlphaE3 minimizes ConcaveLeft from x0, as linesearch.toml specifies.
 //
 // Direction steepest: steepest descent, d = −∇f; no memory, linear convergence.
@@ -105,7 +108,7 @@ func ConcaveLeftStrongWolfeMTAlphaE3(x0 float64) ConcaveLeftStrongWolfeMTAlphaE3
 
 // ConcaveLeftStrongWolfeMTAlphaE3WithLimits is ConcaveLeftStrongWolfeMTAlphaE3 with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func ConcaveLeftStrongWolfeMTAlphaE3WithLimits(x0 float64, limits ConcaveLeftStrongWolfeMTAlphaE3Limits) ConcaveLeftStrongWolfeMTAlphaE3Result {
-	out := concaveLeftStrongWolfeMTAlphaE3Minimize([1]float64{x0}, limits)
+	out := concaveLeftStrongWolfeMTAlphaE3Minimize([1]float64{x0}, limits, concaveLeftStrongWolfeMTAlphaE3Box{})
 	return ConcaveLeftStrongWolfeMTAlphaE3Result{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func concaveLeftStrongWolfeMTAlphaE3Minimize(x0 [1]float64, lim ConcaveLeftStrongWolfeMTAlphaE3Limits) concaveLeftStrongWolfeMTAlphaE3Outcome {
-	out := concaveLeftStrongWolfeMTAlphaE3Outcome{x: x0, status: ConcaveLeftStrongWolfeMTAlphaE3OutOfEvaluations, gradient: math.NaN()}
+func concaveLeftStrongWolfeMTAlphaE3Minimize(x0 [1]float64, lim ConcaveLeftStrongWolfeMTAlphaE3Limits, bounds concaveLeftStrongWolfeMTAlphaE3Box) concaveLeftStrongWolfeMTAlphaE3Outcome {
+	x := x0
+	concaveLeftStrongWolfeMTAlphaE3EnterBox(&x, &bounds)
+	out := concaveLeftStrongWolfeMTAlphaE3Outcome{x: x, status: ConcaveLeftStrongWolfeMTAlphaE3OutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := ConcaveLeft(x[0])
 	out.f, out.evaluations = fx, 1
 	if !concaveLeftStrongWolfeMTAlphaE3Finite(fx) || !concaveLeftStrongWolfeMTAlphaE3FiniteVec(&x) {
 		out.status = ConcaveLeftStrongWolfeMTAlphaE3NonFiniteStart
 		return out
 	}
-	var diffs concaveLeftStrongWolfeMTAlphaE3Differences
+	diffs := concaveLeftStrongWolfeMTAlphaE3Differences{bounds: bounds}
 	calls, ok := concaveLeftStrongWolfeMTAlphaE3Calibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+concaveLeftStrongWolfeMTAlphaE3DerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [1]float64
-	concaveLeftStrongWolfeMTAlphaE3Derivative(&x, fx, &g, &diffs)
-	out.evaluations += concaveLeftStrongWolfeMTAlphaE3DerivativeCost
+	out.evaluations += concaveLeftStrongWolfeMTAlphaE3Derivative(&x, fx, &g, &diffs)
 
 	if !concaveLeftStrongWolfeMTAlphaE3FiniteVec(&g) {
 		out.status = ConcaveLeftStrongWolfeMTAlphaE3NonFiniteGradient
@@ -211,7 +214,7 @@ func concaveLeftStrongWolfeMTAlphaE3Minimize(x0 [1]float64, lim ConcaveLeftStron
 		case !confirmed:
 			concaveLeftStrongWolfeMTAlphaE3GradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := concaveLeftStrongWolfeMTAlphaE3GradientMeasure(&g, &e, &x, fx)
+		measure, floor := concaveLeftStrongWolfeMTAlphaE3Stationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, concaveLeftStrongWolfeMTAlphaE3Larger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func concaveLeftStrongWolfeMTAlphaE3Minimize(x0 [1]float64, lim ConcaveLeftStron
 			if rises >= 8 {
 				return best.ending(ConcaveLeftStrongWolfeMTAlphaE3Diverged, out.iterations, out.evaluations)
 			}
+			concaveLeftStrongWolfeMTAlphaE3CurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(ConcaveLeftStrongWolfeMTAlphaE3OutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		concaveLeftStrongWolfeMTAlphaE3SearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := concaveLeftStrongWolfeMTAlphaE3Dot(&g, &d)
 		if !(now < 0) || !concaveLeftStrongWolfeMTAlphaE3FiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			concaveLeftStrongWolfeMTAlphaE3SearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = concaveLeftStrongWolfeMTAlphaE3Dot(&g, &d)
 		}
 		first := float64(concaveLeftStrongWolfeMTAlphaE3StepInitial)
@@ -267,7 +271,7 @@ func concaveLeftStrongWolfeMTAlphaE3Minimize(x0 [1]float64, lim ConcaveLeftStron
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := concaveLeftStrongWolfeMTAlphaE3TinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := concaveLeftStrongWolfeMTAlphaE3LineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := concaveLeftStrongWolfeMTAlphaE3LineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case concaveLeftStrongWolfeMTAlphaE3SearchOutOfBudget:
@@ -303,8 +307,7 @@ func concaveLeftStrongWolfeMTAlphaE3Minimize(x0 [1]float64, lim ConcaveLeftStron
 				}
 				return best.ending(ConcaveLeftStrongWolfeMTAlphaE3OutOfEvaluations, out.iterations, out.evaluations)
 			}
-			concaveLeftStrongWolfeMTAlphaE3Derivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += concaveLeftStrongWolfeMTAlphaE3DerivativeCost
+			out.evaluations += concaveLeftStrongWolfeMTAlphaE3Derivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		concaveLeftStrongWolfeMTAlphaE3Difference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o concaveLeftStrongWolfeMTAlphaE3Outcome) ending(end ConcaveLeftStrongWolf
 	return o
 }
 
+// concaveLeftStrongWolfeMTAlphaE3EnterBox: without bounds every start is inside.
+func concaveLeftStrongWolfeMTAlphaE3EnterBox(x *[1]float64, b *concaveLeftStrongWolfeMTAlphaE3Box) {}
+
 // concaveLeftStrongWolfeMTAlphaE3Finite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func concaveLeftStrongWolfeMTAlphaE3FiniteVec(x *[1]float64) bool {
 	return true
 }
 
-// concaveLeftStrongWolfeMTAlphaE3Differences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// concaveLeftStrongWolfeMTAlphaE3Differences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type concaveLeftStrongWolfeMTAlphaE3Differences struct {
 	ratio     [1]float64
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see concaveLeftStrongWolfeMTAlphaE3RoundingFloor)
+	bounds    concaveLeftStrongWolfeMTAlphaE3Box
 }
 
 // concaveLeftStrongWolfeMTAlphaE3Calibrate: an analytic gradient needs no intervals.
@@ -384,8 +392,9 @@ func concaveLeftStrongWolfeMTAlphaE3Calibrate(x *[1]float64, fx float64, diffs *
 }
 
 // concaveLeftStrongWolfeMTAlphaE3Derivative calls the user's gradient; it costs no objective calls.
-func concaveLeftStrongWolfeMTAlphaE3Derivative(x *[1]float64, fx float64, g *[1]float64, diffs *concaveLeftStrongWolfeMTAlphaE3Differences) {
+func concaveLeftStrongWolfeMTAlphaE3Derivative(x *[1]float64, fx float64, g *[1]float64, diffs *concaveLeftStrongWolfeMTAlphaE3Differences) int {
 	g[0] = ConcaveLeftDeriv(x[0])
+	return 0
 }
 
 // concaveLeftStrongWolfeMTAlphaE3Direction is steepest descent, d = −∇f(x): the direction of
@@ -401,8 +410,22 @@ func (s *concaveLeftStrongWolfeMTAlphaE3Direction) compute(g, d *[1]float64) {
 
 func (s *concaveLeftStrongWolfeMTAlphaE3Direction) update(step, change *[1]float64) {}
 
+// firstTrial is the scaled trial (concaveLeftStrongWolfeMTAlphaE3ScaledTrial), grown at most by
+// 2^(concaveLeftStrongWolfeMTAlphaE3StepTrials/2) over the previous step t. Steepest descent is the one
+// direction paired with backtracking that scales its first trial, and
+// backtracking can only shrink: after a step that nearly solved the
+// problem the slope collapses, the ratio can exceed the range its trials
+// halve through, and the search would end with no acceptable step. The
+// cap keeps at least half the trials below the previous step (a safeguard
+// of our own; cg, whose ratios can legitimately be that large on badly
+// scaled problems, always pairs with a Wolfe search, which expands and
+// zooms instead).
 func (s *concaveLeftStrongWolfeMTAlphaE3Direction) firstTrial(t, slope, now float64) float64 {
-	return concaveLeftStrongWolfeMTAlphaE3ScaledTrial(t, slope, now)
+	next := concaveLeftStrongWolfeMTAlphaE3ScaledTrial(t, slope, now)
+	if reach := t * math.Ldexp(1, concaveLeftStrongWolfeMTAlphaE3StepTrials/2); next > reach {
+		return reach
+	}
+	return next
 }
 
 // concaveLeftStrongWolfeMTAlphaE3Negate sets out = −x.
@@ -471,13 +494,13 @@ func concaveLeftStrongWolfeMTAlphaE3ConfirmGradient(x *[1]float64, fx float64, g
 		wide.ratio[i] *= 2
 	}
 	var doubled [1]float64
-	concaveLeftStrongWolfeMTAlphaE3Derivative(x, fx, g, diffs)
-	concaveLeftStrongWolfeMTAlphaE3Derivative(x, fx, &doubled, &wide)
+	calls += concaveLeftStrongWolfeMTAlphaE3Derivative(x, fx, g, diffs)
+	calls += concaveLeftStrongWolfeMTAlphaE3Derivative(x, fx, &doubled, &wide)
 	concaveLeftStrongWolfeMTAlphaE3GradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * concaveLeftStrongWolfeMTAlphaE3Abs(g[i]-doubled[i])
 	}
-	return calls + 2*concaveLeftStrongWolfeMTAlphaE3DerivativeCost, true
+	return calls, true
 }
 
 // concaveLeftStrongWolfeMTAlphaE3GradientError: the analytic gradient is taken as exact; its error is
@@ -519,18 +542,60 @@ func concaveLeftStrongWolfeMTAlphaE3DiagonalCurvature(x, g *[1]float64, diffs *c
 	var moved [1]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := concaveLeftStrongWolfeMTAlphaE3ProbeStep(xi, concaveLeftStrongWolfeMTAlphaE3SquareRoot(concaveLeftStrongWolfeMTAlphaE3UnitRoundoff)*concaveLeftStrongWolfeMTAlphaE3Larger(1, concaveLeftStrongWolfeMTAlphaE3Abs(xi)))
-		probe[i] = up
-		moved[0] = ConcaveLeftDeriv(probe[0])
-		h[i] = concaveLeftStrongWolfeMTAlphaE3Abs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := concaveLeftStrongWolfeMTAlphaE3CoordinateRange(i, diffs)
+		up, delta := concaveLeftStrongWolfeMTAlphaE3ProbeStep(xi, concaveLeftStrongWolfeMTAlphaE3OneSide(xi, concaveLeftStrongWolfeMTAlphaE3SquareRoot(concaveLeftStrongWolfeMTAlphaE3UnitRoundoff)*concaveLeftStrongWolfeMTAlphaE3Larger(1, concaveLeftStrongWolfeMTAlphaE3Abs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			moved[0] = ConcaveLeftDeriv(probe[0])
+			h[i] = concaveLeftStrongWolfeMTAlphaE3Abs(moved[i]-g[i]) / concaveLeftStrongWolfeMTAlphaE3Abs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// concaveLeftStrongWolfeMTAlphaE3ProbeStep returns x_i moved by h, and the step actually representable.
-func concaveLeftStrongWolfeMTAlphaE3ProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// concaveLeftStrongWolfeMTAlphaE3CoordinateRange: without bounds any probe is allowed.
+func concaveLeftStrongWolfeMTAlphaE3CoordinateRange(i int, diffs *concaveLeftStrongWolfeMTAlphaE3Differences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// concaveLeftStrongWolfeMTAlphaE3ProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func concaveLeftStrongWolfeMTAlphaE3ProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := concaveLeftStrongWolfeMTAlphaE3ClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// concaveLeftStrongWolfeMTAlphaE3ClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func concaveLeftStrongWolfeMTAlphaE3ClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// concaveLeftStrongWolfeMTAlphaE3OneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func concaveLeftStrongWolfeMTAlphaE3OneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // concaveLeftStrongWolfeMTAlphaE3SquareRoot returns √v.
@@ -546,6 +611,11 @@ func concaveLeftStrongWolfeMTAlphaE3Larger(a, b float64) float64 {
 		return a
 	}
 	return b
+}
+
+// concaveLeftStrongWolfeMTAlphaE3Stationarity measures the gradient itself.
+func concaveLeftStrongWolfeMTAlphaE3Stationarity(g, e, x *[1]float64, fx float64, b *concaveLeftStrongWolfeMTAlphaE3Box) (measure, floor float64) {
+	return concaveLeftStrongWolfeMTAlphaE3GradientMeasure(g, e, x, fx)
 }
 
 // concaveLeftStrongWolfeMTAlphaE3GradientMeasure is the scale-free measure
@@ -579,6 +649,15 @@ func concaveLeftStrongWolfeMTAlphaE3StepWithin(s, x *[1]float64, tol float64) bo
 		}
 	}
 	return true
+}
+
+// concaveLeftStrongWolfeMTAlphaE3CurvaturePair: without bounds the pair is used as it is.
+func concaveLeftStrongWolfeMTAlphaE3CurvaturePair(s, y, x *[1]float64, b *concaveLeftStrongWolfeMTAlphaE3Box) {
+}
+
+// concaveLeftStrongWolfeMTAlphaE3SearchDirection is the direction's own.
+func concaveLeftStrongWolfeMTAlphaE3SearchDirection(dir *concaveLeftStrongWolfeMTAlphaE3Direction, x, g, d *[1]float64, b *concaveLeftStrongWolfeMTAlphaE3Box) {
+	dir.compute(g, d)
 }
 
 // concaveLeftStrongWolfeMTAlphaE3Dot returns aᵀb.
@@ -617,7 +696,10 @@ func concaveLeftStrongWolfeMTAlphaE3TinyStep(x, d *[1]float64, tol float64) floa
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (concaveLeftStrongWolfeMTAlphaE3StepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -626,13 +708,17 @@ func concaveLeftStrongWolfeMTAlphaE3TinyStep(x, d *[1]float64, tol float64) floa
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func concaveLeftStrongWolfeMTAlphaE3LineSearch(x *[1]float64, fx float64, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *concaveLeftStrongWolfeMTAlphaE3Differences) concaveLeftStrongWolfeMTAlphaE3LineResult {
+func concaveLeftStrongWolfeMTAlphaE3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *concaveLeftStrongWolfeMTAlphaE3Differences) concaveLeftStrongWolfeMTAlphaE3LineResult {
 	low := concaveLeftStrongWolfeMTAlphaE3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveLeftStrongWolfeMTAlphaE3LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                               // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend concaveLeftStrongWolfeMTAlphaE3RiseTrend // of the trials failing sufficient decrease
+	var trend concaveLeftStrongWolfeMTAlphaE3RiseTrend                         // of the trials failing sufficient decrease
+	limit := concaveLeftStrongWolfeMTAlphaE3StepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < concaveLeftStrongWolfeMTAlphaE3StepTrials; trial++ {
 		if bracketed && concaveLeftStrongWolfeMTAlphaE3Abs(high.step-low.step) <= tiny {
@@ -642,12 +728,12 @@ func concaveLeftStrongWolfeMTAlphaE3LineSearch(x *[1]float64, fx float64, d *[1]
 			if low.step == 0 {
 				return concaveLeftStrongWolfeMTAlphaE3LineResult{calls: calls, rising: trend.contradicts(), end: concaveLeftStrongWolfeMTAlphaE3TinyOrExhausted(concaveLeftStrongWolfeMTAlphaE3Finite(high.value))}
 			}
-			return concaveLeftStrongWolfeMTAlphaE3AcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return concaveLeftStrongWolfeMTAlphaE3AcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return concaveLeftStrongWolfeMTAlphaE3LineResult{calls: calls, end: concaveLeftStrongWolfeMTAlphaE3SearchOutOfBudget}
 		}
-		concaveLeftStrongWolfeMTAlphaE3MoveTo(xt, x, t, d)
+		concaveLeftStrongWolfeMTAlphaE3TrialPoint(xt, x, t, d, &diffs.bounds)
 		current := concaveLeftStrongWolfeMTAlphaE3LinePoint{step: t, value: ConcaveLeft(xt[0])}
 		calls++
 		previous := low
@@ -658,8 +744,7 @@ func concaveLeftStrongWolfeMTAlphaE3LineSearch(x *[1]float64, fx float64, d *[1]
 			if calls+concaveLeftStrongWolfeMTAlphaE3DerivativeCost > budget {
 				return concaveLeftStrongWolfeMTAlphaE3LineResult{calls: calls, end: concaveLeftStrongWolfeMTAlphaE3SearchOutOfBudget}
 			}
-			concaveLeftStrongWolfeMTAlphaE3Derivative(xt, current.value, gt, diffs)
-			calls += concaveLeftStrongWolfeMTAlphaE3DerivativeCost
+			calls += concaveLeftStrongWolfeMTAlphaE3Derivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = concaveLeftStrongWolfeMTAlphaE3Dot(gt, d), true
 			switch {
 			case !concaveLeftStrongWolfeMTAlphaE3Finite(current.slope):
@@ -670,18 +755,22 @@ func concaveLeftStrongWolfeMTAlphaE3LineSearch(x *[1]float64, fx float64, d *[1]
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return concaveLeftStrongWolfeMTAlphaE3LineResult{step: t, value: current.value, calls: calls, gradient: true, end: concaveLeftStrongWolfeMTAlphaE3SearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = concaveLeftStrongWolfeMTAlphaE3ZoomTrial(&low, &high)
-		} else {
-			t = concaveLeftStrongWolfeMTAlphaE3ExpandTrial(&previous, &current)
+		} else if t = concaveLeftStrongWolfeMTAlphaE3ExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return concaveLeftStrongWolfeMTAlphaE3AcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return concaveLeftStrongWolfeMTAlphaE3AcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return concaveLeftStrongWolfeMTAlphaE3LineResult{calls: calls, rising: trend.contradicts(), end: concaveLeftStrongWolfeMTAlphaE3SearchExhausted}
 }
@@ -768,6 +857,11 @@ func concaveLeftStrongWolfeMTAlphaE3FaithfulStep(x, xt, d *[1]float64, t float64
 	return true
 }
 
+// concaveLeftStrongWolfeMTAlphaE3StepCap: without bounds a step may be as long as the search wants.
+func concaveLeftStrongWolfeMTAlphaE3StepCap(x, d *[1]float64, tiny float64, b *concaveLeftStrongWolfeMTAlphaE3Box) float64 {
+	return math.Inf(1)
+}
+
 // concaveLeftStrongWolfeMTAlphaE3TinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -792,10 +886,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func concaveLeftStrongWolfeMTAlphaE3AcceptLow(x, d *[1]float64, low *concaveLeftStrongWolfeMTAlphaE3LinePoint, lowGradient *[1]float64, calls int, xt, gt *[1]float64) concaveLeftStrongWolfeMTAlphaE3LineResult {
-	concaveLeftStrongWolfeMTAlphaE3MoveTo(xt, x, low.step, d)
+func concaveLeftStrongWolfeMTAlphaE3AcceptLow(x, d *[1]float64, low *concaveLeftStrongWolfeMTAlphaE3LinePoint, lowGradient *[1]float64, calls int, xt, gt *[1]float64, diffs *concaveLeftStrongWolfeMTAlphaE3Differences) concaveLeftStrongWolfeMTAlphaE3LineResult {
+	concaveLeftStrongWolfeMTAlphaE3TrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return concaveLeftStrongWolfeMTAlphaE3LineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: concaveLeftStrongWolfeMTAlphaE3SearchAccepted}
+}
+
+// concaveLeftStrongWolfeMTAlphaE3TrialPoint is x + t·d.
+func concaveLeftStrongWolfeMTAlphaE3TrialPoint(out, x *[1]float64, t float64, d *[1]float64, b *concaveLeftStrongWolfeMTAlphaE3Box) {
+	concaveLeftStrongWolfeMTAlphaE3MoveTo(out, x, t, d)
 }
 
 // concaveLeftStrongWolfeMTAlphaE3MoveTo sets out = x + t·d.
@@ -850,21 +949,6 @@ func concaveLeftStrongWolfeMTAlphaE3ModelMinimizer(a, b *concaveLeftStrongWolfeM
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, concaveLeftStrongWolfeMTAlphaE3Finite(t)
-}
-
-// concaveLeftStrongWolfeMTAlphaE3ClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func concaveLeftStrongWolfeMTAlphaE3ClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // concaveLeftStrongWolfeMTAlphaE3ExpandTrial picks a larger trial after current met sufficient decrease

@@ -88,6 +88,9 @@ func ConcaveLeftStrongWolfeMTAlphaEm1DefaultLimits() ConcaveLeftStrongWolfeMTAlp
 	}
 }
 
+// concaveLeftStrongWolfeMTAlphaEm1Box is empty: linesearch.toml sets no bounds on ConcaveLeftStrongWolfeMTAlphaEm1.
+type concaveLeftStrongWolfeMTAlphaEm1Box struct{}
+
 // ConcaveLeftStrongWolfeMTAlphaEm1 minimizes ConcaveLeft from x0, as linesearch.toml specifies.
 //
 // Direction steepest: steepest descent, d = −∇f; no memory, linear convergence.
@@ -105,7 +108,7 @@ func ConcaveLeftStrongWolfeMTAlphaEm1(x0 float64) ConcaveLeftStrongWolfeMTAlphaE
 
 // ConcaveLeftStrongWolfeMTAlphaEm1WithLimits is ConcaveLeftStrongWolfeMTAlphaEm1 with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func ConcaveLeftStrongWolfeMTAlphaEm1WithLimits(x0 float64, limits ConcaveLeftStrongWolfeMTAlphaEm1Limits) ConcaveLeftStrongWolfeMTAlphaEm1Result {
-	out := concaveLeftStrongWolfeMTAlphaEm1Minimize([1]float64{x0}, limits)
+	out := concaveLeftStrongWolfeMTAlphaEm1Minimize([1]float64{x0}, limits, concaveLeftStrongWolfeMTAlphaEm1Box{})
 	return ConcaveLeftStrongWolfeMTAlphaEm1Result{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func concaveLeftStrongWolfeMTAlphaEm1Minimize(x0 [1]float64, lim ConcaveLeftStrongWolfeMTAlphaEm1Limits) concaveLeftStrongWolfeMTAlphaEm1Outcome {
-	out := concaveLeftStrongWolfeMTAlphaEm1Outcome{x: x0, status: ConcaveLeftStrongWolfeMTAlphaEm1OutOfEvaluations, gradient: math.NaN()}
+func concaveLeftStrongWolfeMTAlphaEm1Minimize(x0 [1]float64, lim ConcaveLeftStrongWolfeMTAlphaEm1Limits, bounds concaveLeftStrongWolfeMTAlphaEm1Box) concaveLeftStrongWolfeMTAlphaEm1Outcome {
+	x := x0
+	concaveLeftStrongWolfeMTAlphaEm1EnterBox(&x, &bounds)
+	out := concaveLeftStrongWolfeMTAlphaEm1Outcome{x: x, status: ConcaveLeftStrongWolfeMTAlphaEm1OutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := ConcaveLeft(x[0])
 	out.f, out.evaluations = fx, 1
 	if !concaveLeftStrongWolfeMTAlphaEm1Finite(fx) || !concaveLeftStrongWolfeMTAlphaEm1FiniteVec(&x) {
 		out.status = ConcaveLeftStrongWolfeMTAlphaEm1NonFiniteStart
 		return out
 	}
-	var diffs concaveLeftStrongWolfeMTAlphaEm1Differences
+	diffs := concaveLeftStrongWolfeMTAlphaEm1Differences{bounds: bounds}
 	calls, ok := concaveLeftStrongWolfeMTAlphaEm1Calibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+concaveLeftStrongWolfeMTAlphaEm1DerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [1]float64
-	concaveLeftStrongWolfeMTAlphaEm1Derivative(&x, fx, &g, &diffs)
-	out.evaluations += concaveLeftStrongWolfeMTAlphaEm1DerivativeCost
+	out.evaluations += concaveLeftStrongWolfeMTAlphaEm1Derivative(&x, fx, &g, &diffs)
 
 	if !concaveLeftStrongWolfeMTAlphaEm1FiniteVec(&g) {
 		out.status = ConcaveLeftStrongWolfeMTAlphaEm1NonFiniteGradient
@@ -211,7 +214,7 @@ func concaveLeftStrongWolfeMTAlphaEm1Minimize(x0 [1]float64, lim ConcaveLeftStro
 		case !confirmed:
 			concaveLeftStrongWolfeMTAlphaEm1GradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := concaveLeftStrongWolfeMTAlphaEm1GradientMeasure(&g, &e, &x, fx)
+		measure, floor := concaveLeftStrongWolfeMTAlphaEm1Stationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, concaveLeftStrongWolfeMTAlphaEm1Larger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func concaveLeftStrongWolfeMTAlphaEm1Minimize(x0 [1]float64, lim ConcaveLeftStro
 			if rises >= 8 {
 				return best.ending(ConcaveLeftStrongWolfeMTAlphaEm1Diverged, out.iterations, out.evaluations)
 			}
+			concaveLeftStrongWolfeMTAlphaEm1CurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(ConcaveLeftStrongWolfeMTAlphaEm1OutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		concaveLeftStrongWolfeMTAlphaEm1SearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := concaveLeftStrongWolfeMTAlphaEm1Dot(&g, &d)
 		if !(now < 0) || !concaveLeftStrongWolfeMTAlphaEm1FiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			concaveLeftStrongWolfeMTAlphaEm1SearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = concaveLeftStrongWolfeMTAlphaEm1Dot(&g, &d)
 		}
 		first := float64(concaveLeftStrongWolfeMTAlphaEm1StepInitial)
@@ -267,7 +271,7 @@ func concaveLeftStrongWolfeMTAlphaEm1Minimize(x0 [1]float64, lim ConcaveLeftStro
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := concaveLeftStrongWolfeMTAlphaEm1TinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := concaveLeftStrongWolfeMTAlphaEm1LineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := concaveLeftStrongWolfeMTAlphaEm1LineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case concaveLeftStrongWolfeMTAlphaEm1SearchOutOfBudget:
@@ -303,8 +307,7 @@ func concaveLeftStrongWolfeMTAlphaEm1Minimize(x0 [1]float64, lim ConcaveLeftStro
 				}
 				return best.ending(ConcaveLeftStrongWolfeMTAlphaEm1OutOfEvaluations, out.iterations, out.evaluations)
 			}
-			concaveLeftStrongWolfeMTAlphaEm1Derivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += concaveLeftStrongWolfeMTAlphaEm1DerivativeCost
+			out.evaluations += concaveLeftStrongWolfeMTAlphaEm1Derivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		concaveLeftStrongWolfeMTAlphaEm1Difference(&s, &xt, &x)
@@ -345,6 +348,10 @@ func (o concaveLeftStrongWolfeMTAlphaEm1Outcome) ending(end ConcaveLeftStrongWol
 	return o
 }
 
+// concaveLeftStrongWolfeMTAlphaEm1EnterBox: without bounds every start is inside.
+func concaveLeftStrongWolfeMTAlphaEm1EnterBox(x *[1]float64, b *concaveLeftStrongWolfeMTAlphaEm1Box) {
+}
+
 // concaveLeftStrongWolfeMTAlphaEm1Finite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +374,17 @@ func concaveLeftStrongWolfeMTAlphaEm1FiniteVec(x *[1]float64) bool {
 	return true
 }
 
-// concaveLeftStrongWolfeMTAlphaEm1Differences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// concaveLeftStrongWolfeMTAlphaEm1Differences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type concaveLeftStrongWolfeMTAlphaEm1Differences struct {
 	ratio     [1]float64
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see concaveLeftStrongWolfeMTAlphaEm1RoundingFloor)
+	bounds    concaveLeftStrongWolfeMTAlphaEm1Box
 }
 
 // concaveLeftStrongWolfeMTAlphaEm1Calibrate: an analytic gradient needs no intervals.
@@ -384,8 +393,9 @@ func concaveLeftStrongWolfeMTAlphaEm1Calibrate(x *[1]float64, fx float64, diffs 
 }
 
 // concaveLeftStrongWolfeMTAlphaEm1Derivative calls the user's gradient; it costs no objective calls.
-func concaveLeftStrongWolfeMTAlphaEm1Derivative(x *[1]float64, fx float64, g *[1]float64, diffs *concaveLeftStrongWolfeMTAlphaEm1Differences) {
+func concaveLeftStrongWolfeMTAlphaEm1Derivative(x *[1]float64, fx float64, g *[1]float64, diffs *concaveLeftStrongWolfeMTAlphaEm1Differences) int {
 	g[0] = ConcaveLeftDeriv(x[0])
+	return 0
 }
 
 // concaveLeftStrongWolfeMTAlphaEm1Direction is steepest descent, d = −∇f(x): the direction of
@@ -401,8 +411,22 @@ func (s *concaveLeftStrongWolfeMTAlphaEm1Direction) compute(g, d *[1]float64) {
 
 func (s *concaveLeftStrongWolfeMTAlphaEm1Direction) update(step, change *[1]float64) {}
 
+// firstTrial is the scaled trial (concaveLeftStrongWolfeMTAlphaEm1ScaledTrial), grown at most by
+// 2^(concaveLeftStrongWolfeMTAlphaEm1StepTrials/2) over the previous step t. Steepest descent is the one
+// direction paired with backtracking that scales its first trial, and
+// backtracking can only shrink: after a step that nearly solved the
+// problem the slope collapses, the ratio can exceed the range its trials
+// halve through, and the search would end with no acceptable step. The
+// cap keeps at least half the trials below the previous step (a safeguard
+// of our own; cg, whose ratios can legitimately be that large on badly
+// scaled problems, always pairs with a Wolfe search, which expands and
+// zooms instead).
 func (s *concaveLeftStrongWolfeMTAlphaEm1Direction) firstTrial(t, slope, now float64) float64 {
-	return concaveLeftStrongWolfeMTAlphaEm1ScaledTrial(t, slope, now)
+	next := concaveLeftStrongWolfeMTAlphaEm1ScaledTrial(t, slope, now)
+	if reach := t * math.Ldexp(1, concaveLeftStrongWolfeMTAlphaEm1StepTrials/2); next > reach {
+		return reach
+	}
+	return next
 }
 
 // concaveLeftStrongWolfeMTAlphaEm1Negate sets out = −x.
@@ -471,13 +495,13 @@ func concaveLeftStrongWolfeMTAlphaEm1ConfirmGradient(x *[1]float64, fx float64, 
 		wide.ratio[i] *= 2
 	}
 	var doubled [1]float64
-	concaveLeftStrongWolfeMTAlphaEm1Derivative(x, fx, g, diffs)
-	concaveLeftStrongWolfeMTAlphaEm1Derivative(x, fx, &doubled, &wide)
+	calls += concaveLeftStrongWolfeMTAlphaEm1Derivative(x, fx, g, diffs)
+	calls += concaveLeftStrongWolfeMTAlphaEm1Derivative(x, fx, &doubled, &wide)
 	concaveLeftStrongWolfeMTAlphaEm1GradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * concaveLeftStrongWolfeMTAlphaEm1Abs(g[i]-doubled[i])
 	}
-	return calls + 2*concaveLeftStrongWolfeMTAlphaEm1DerivativeCost, true
+	return calls, true
 }
 
 // concaveLeftStrongWolfeMTAlphaEm1GradientError: the analytic gradient is taken as exact; its error is
@@ -519,18 +543,60 @@ func concaveLeftStrongWolfeMTAlphaEm1DiagonalCurvature(x, g *[1]float64, diffs *
 	var moved [1]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := concaveLeftStrongWolfeMTAlphaEm1ProbeStep(xi, concaveLeftStrongWolfeMTAlphaEm1SquareRoot(concaveLeftStrongWolfeMTAlphaEm1UnitRoundoff)*concaveLeftStrongWolfeMTAlphaEm1Larger(1, concaveLeftStrongWolfeMTAlphaEm1Abs(xi)))
-		probe[i] = up
-		moved[0] = ConcaveLeftDeriv(probe[0])
-		h[i] = concaveLeftStrongWolfeMTAlphaEm1Abs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := concaveLeftStrongWolfeMTAlphaEm1CoordinateRange(i, diffs)
+		up, delta := concaveLeftStrongWolfeMTAlphaEm1ProbeStep(xi, concaveLeftStrongWolfeMTAlphaEm1OneSide(xi, concaveLeftStrongWolfeMTAlphaEm1SquareRoot(concaveLeftStrongWolfeMTAlphaEm1UnitRoundoff)*concaveLeftStrongWolfeMTAlphaEm1Larger(1, concaveLeftStrongWolfeMTAlphaEm1Abs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			moved[0] = ConcaveLeftDeriv(probe[0])
+			h[i] = concaveLeftStrongWolfeMTAlphaEm1Abs(moved[i]-g[i]) / concaveLeftStrongWolfeMTAlphaEm1Abs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// concaveLeftStrongWolfeMTAlphaEm1ProbeStep returns x_i moved by h, and the step actually representable.
-func concaveLeftStrongWolfeMTAlphaEm1ProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// concaveLeftStrongWolfeMTAlphaEm1CoordinateRange: without bounds any probe is allowed.
+func concaveLeftStrongWolfeMTAlphaEm1CoordinateRange(i int, diffs *concaveLeftStrongWolfeMTAlphaEm1Differences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// concaveLeftStrongWolfeMTAlphaEm1ProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func concaveLeftStrongWolfeMTAlphaEm1ProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := concaveLeftStrongWolfeMTAlphaEm1ClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// concaveLeftStrongWolfeMTAlphaEm1ClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func concaveLeftStrongWolfeMTAlphaEm1ClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// concaveLeftStrongWolfeMTAlphaEm1OneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func concaveLeftStrongWolfeMTAlphaEm1OneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // concaveLeftStrongWolfeMTAlphaEm1SquareRoot returns √v.
@@ -546,6 +612,11 @@ func concaveLeftStrongWolfeMTAlphaEm1Larger(a, b float64) float64 {
 		return a
 	}
 	return b
+}
+
+// concaveLeftStrongWolfeMTAlphaEm1Stationarity measures the gradient itself.
+func concaveLeftStrongWolfeMTAlphaEm1Stationarity(g, e, x *[1]float64, fx float64, b *concaveLeftStrongWolfeMTAlphaEm1Box) (measure, floor float64) {
+	return concaveLeftStrongWolfeMTAlphaEm1GradientMeasure(g, e, x, fx)
 }
 
 // concaveLeftStrongWolfeMTAlphaEm1GradientMeasure is the scale-free measure
@@ -579,6 +650,15 @@ func concaveLeftStrongWolfeMTAlphaEm1StepWithin(s, x *[1]float64, tol float64) b
 		}
 	}
 	return true
+}
+
+// concaveLeftStrongWolfeMTAlphaEm1CurvaturePair: without bounds the pair is used as it is.
+func concaveLeftStrongWolfeMTAlphaEm1CurvaturePair(s, y, x *[1]float64, b *concaveLeftStrongWolfeMTAlphaEm1Box) {
+}
+
+// concaveLeftStrongWolfeMTAlphaEm1SearchDirection is the direction's own.
+func concaveLeftStrongWolfeMTAlphaEm1SearchDirection(dir *concaveLeftStrongWolfeMTAlphaEm1Direction, x, g, d *[1]float64, b *concaveLeftStrongWolfeMTAlphaEm1Box) {
+	dir.compute(g, d)
 }
 
 // concaveLeftStrongWolfeMTAlphaEm1Dot returns aᵀb.
@@ -617,7 +697,10 @@ func concaveLeftStrongWolfeMTAlphaEm1TinyStep(x, d *[1]float64, tol float64) flo
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (concaveLeftStrongWolfeMTAlphaEm1StepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -626,13 +709,17 @@ func concaveLeftStrongWolfeMTAlphaEm1TinyStep(x, d *[1]float64, tol float64) flo
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func concaveLeftStrongWolfeMTAlphaEm1LineSearch(x *[1]float64, fx float64, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *concaveLeftStrongWolfeMTAlphaEm1Differences) concaveLeftStrongWolfeMTAlphaEm1LineResult {
+func concaveLeftStrongWolfeMTAlphaEm1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *concaveLeftStrongWolfeMTAlphaEm1Differences) concaveLeftStrongWolfeMTAlphaEm1LineResult {
 	low := concaveLeftStrongWolfeMTAlphaEm1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveLeftStrongWolfeMTAlphaEm1LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                                // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend concaveLeftStrongWolfeMTAlphaEm1RiseTrend // of the trials failing sufficient decrease
+	var trend concaveLeftStrongWolfeMTAlphaEm1RiseTrend                         // of the trials failing sufficient decrease
+	limit := concaveLeftStrongWolfeMTAlphaEm1StepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < concaveLeftStrongWolfeMTAlphaEm1StepTrials; trial++ {
 		if bracketed && concaveLeftStrongWolfeMTAlphaEm1Abs(high.step-low.step) <= tiny {
@@ -642,12 +729,12 @@ func concaveLeftStrongWolfeMTAlphaEm1LineSearch(x *[1]float64, fx float64, d *[1
 			if low.step == 0 {
 				return concaveLeftStrongWolfeMTAlphaEm1LineResult{calls: calls, rising: trend.contradicts(), end: concaveLeftStrongWolfeMTAlphaEm1TinyOrExhausted(concaveLeftStrongWolfeMTAlphaEm1Finite(high.value))}
 			}
-			return concaveLeftStrongWolfeMTAlphaEm1AcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return concaveLeftStrongWolfeMTAlphaEm1AcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return concaveLeftStrongWolfeMTAlphaEm1LineResult{calls: calls, end: concaveLeftStrongWolfeMTAlphaEm1SearchOutOfBudget}
 		}
-		concaveLeftStrongWolfeMTAlphaEm1MoveTo(xt, x, t, d)
+		concaveLeftStrongWolfeMTAlphaEm1TrialPoint(xt, x, t, d, &diffs.bounds)
 		current := concaveLeftStrongWolfeMTAlphaEm1LinePoint{step: t, value: ConcaveLeft(xt[0])}
 		calls++
 		previous := low
@@ -658,8 +745,7 @@ func concaveLeftStrongWolfeMTAlphaEm1LineSearch(x *[1]float64, fx float64, d *[1
 			if calls+concaveLeftStrongWolfeMTAlphaEm1DerivativeCost > budget {
 				return concaveLeftStrongWolfeMTAlphaEm1LineResult{calls: calls, end: concaveLeftStrongWolfeMTAlphaEm1SearchOutOfBudget}
 			}
-			concaveLeftStrongWolfeMTAlphaEm1Derivative(xt, current.value, gt, diffs)
-			calls += concaveLeftStrongWolfeMTAlphaEm1DerivativeCost
+			calls += concaveLeftStrongWolfeMTAlphaEm1Derivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = concaveLeftStrongWolfeMTAlphaEm1Dot(gt, d), true
 			switch {
 			case !concaveLeftStrongWolfeMTAlphaEm1Finite(current.slope):
@@ -670,18 +756,22 @@ func concaveLeftStrongWolfeMTAlphaEm1LineSearch(x *[1]float64, fx float64, d *[1
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return concaveLeftStrongWolfeMTAlphaEm1LineResult{step: t, value: current.value, calls: calls, gradient: true, end: concaveLeftStrongWolfeMTAlphaEm1SearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = concaveLeftStrongWolfeMTAlphaEm1ZoomTrial(&low, &high)
-		} else {
-			t = concaveLeftStrongWolfeMTAlphaEm1ExpandTrial(&previous, &current)
+		} else if t = concaveLeftStrongWolfeMTAlphaEm1ExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return concaveLeftStrongWolfeMTAlphaEm1AcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return concaveLeftStrongWolfeMTAlphaEm1AcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return concaveLeftStrongWolfeMTAlphaEm1LineResult{calls: calls, rising: trend.contradicts(), end: concaveLeftStrongWolfeMTAlphaEm1SearchExhausted}
 }
@@ -768,6 +858,11 @@ func concaveLeftStrongWolfeMTAlphaEm1FaithfulStep(x, xt, d *[1]float64, t float6
 	return true
 }
 
+// concaveLeftStrongWolfeMTAlphaEm1StepCap: without bounds a step may be as long as the search wants.
+func concaveLeftStrongWolfeMTAlphaEm1StepCap(x, d *[1]float64, tiny float64, b *concaveLeftStrongWolfeMTAlphaEm1Box) float64 {
+	return math.Inf(1)
+}
+
 // concaveLeftStrongWolfeMTAlphaEm1TinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -792,10 +887,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func concaveLeftStrongWolfeMTAlphaEm1AcceptLow(x, d *[1]float64, low *concaveLeftStrongWolfeMTAlphaEm1LinePoint, lowGradient *[1]float64, calls int, xt, gt *[1]float64) concaveLeftStrongWolfeMTAlphaEm1LineResult {
-	concaveLeftStrongWolfeMTAlphaEm1MoveTo(xt, x, low.step, d)
+func concaveLeftStrongWolfeMTAlphaEm1AcceptLow(x, d *[1]float64, low *concaveLeftStrongWolfeMTAlphaEm1LinePoint, lowGradient *[1]float64, calls int, xt, gt *[1]float64, diffs *concaveLeftStrongWolfeMTAlphaEm1Differences) concaveLeftStrongWolfeMTAlphaEm1LineResult {
+	concaveLeftStrongWolfeMTAlphaEm1TrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return concaveLeftStrongWolfeMTAlphaEm1LineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: concaveLeftStrongWolfeMTAlphaEm1SearchAccepted}
+}
+
+// concaveLeftStrongWolfeMTAlphaEm1TrialPoint is x + t·d.
+func concaveLeftStrongWolfeMTAlphaEm1TrialPoint(out, x *[1]float64, t float64, d *[1]float64, b *concaveLeftStrongWolfeMTAlphaEm1Box) {
+	concaveLeftStrongWolfeMTAlphaEm1MoveTo(out, x, t, d)
 }
 
 // concaveLeftStrongWolfeMTAlphaEm1MoveTo sets out = x + t·d.
@@ -850,21 +950,6 @@ func concaveLeftStrongWolfeMTAlphaEm1ModelMinimizer(a, b *concaveLeftStrongWolfe
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, concaveLeftStrongWolfeMTAlphaEm1Finite(t)
-}
-
-// concaveLeftStrongWolfeMTAlphaEm1ClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func concaveLeftStrongWolfeMTAlphaEm1ClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // concaveLeftStrongWolfeMTAlphaEm1ExpandTrial picks a larger trial after current met sufficient decrease

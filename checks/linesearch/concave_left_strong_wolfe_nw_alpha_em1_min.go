@@ -88,6 +88,9 @@ func ConcaveLeftStrongWolfeNWAlphaEm1DefaultLimits() ConcaveLeftStrongWolfeNWAlp
 	}
 }
 
+// concaveLeftStrongWolfeNWAlphaEm1Box is empty: linesearch.toml sets no bounds on ConcaveLeftStrongWolfeNWAlphaEm1.
+type concaveLeftStrongWolfeNWAlphaEm1Box struct{}
+
 // ConcaveLeftStrongWolfeNWAlphaEm1 minimizes ConcaveLeft from x0, as linesearch.toml specifies.
 //
 // Direction steepest: steepest descent, d = −∇f; no memory, linear convergence.
@@ -105,7 +108,7 @@ func ConcaveLeftStrongWolfeNWAlphaEm1(x0 float64) ConcaveLeftStrongWolfeNWAlphaE
 
 // ConcaveLeftStrongWolfeNWAlphaEm1WithLimits is ConcaveLeftStrongWolfeNWAlphaEm1 with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func ConcaveLeftStrongWolfeNWAlphaEm1WithLimits(x0 float64, limits ConcaveLeftStrongWolfeNWAlphaEm1Limits) ConcaveLeftStrongWolfeNWAlphaEm1Result {
-	out := concaveLeftStrongWolfeNWAlphaEm1Minimize([1]float64{x0}, limits)
+	out := concaveLeftStrongWolfeNWAlphaEm1Minimize([1]float64{x0}, limits, concaveLeftStrongWolfeNWAlphaEm1Box{})
 	return ConcaveLeftStrongWolfeNWAlphaEm1Result{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func concaveLeftStrongWolfeNWAlphaEm1Minimize(x0 [1]float64, lim ConcaveLeftStrongWolfeNWAlphaEm1Limits) concaveLeftStrongWolfeNWAlphaEm1Outcome {
-	out := concaveLeftStrongWolfeNWAlphaEm1Outcome{x: x0, status: ConcaveLeftStrongWolfeNWAlphaEm1OutOfEvaluations, gradient: math.NaN()}
+func concaveLeftStrongWolfeNWAlphaEm1Minimize(x0 [1]float64, lim ConcaveLeftStrongWolfeNWAlphaEm1Limits, bounds concaveLeftStrongWolfeNWAlphaEm1Box) concaveLeftStrongWolfeNWAlphaEm1Outcome {
+	x := x0
+	concaveLeftStrongWolfeNWAlphaEm1EnterBox(&x, &bounds)
+	out := concaveLeftStrongWolfeNWAlphaEm1Outcome{x: x, status: ConcaveLeftStrongWolfeNWAlphaEm1OutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := ConcaveLeft(x[0])
 	out.f, out.evaluations = fx, 1
 	if !concaveLeftStrongWolfeNWAlphaEm1Finite(fx) || !concaveLeftStrongWolfeNWAlphaEm1FiniteVec(&x) {
 		out.status = ConcaveLeftStrongWolfeNWAlphaEm1NonFiniteStart
 		return out
 	}
-	var diffs concaveLeftStrongWolfeNWAlphaEm1Differences
+	diffs := concaveLeftStrongWolfeNWAlphaEm1Differences{bounds: bounds}
 	calls, ok := concaveLeftStrongWolfeNWAlphaEm1Calibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+concaveLeftStrongWolfeNWAlphaEm1DerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [1]float64
-	concaveLeftStrongWolfeNWAlphaEm1Derivative(&x, fx, &g, &diffs)
-	out.evaluations += concaveLeftStrongWolfeNWAlphaEm1DerivativeCost
+	out.evaluations += concaveLeftStrongWolfeNWAlphaEm1Derivative(&x, fx, &g, &diffs)
 
 	if !concaveLeftStrongWolfeNWAlphaEm1FiniteVec(&g) {
 		out.status = ConcaveLeftStrongWolfeNWAlphaEm1NonFiniteGradient
@@ -211,7 +214,7 @@ func concaveLeftStrongWolfeNWAlphaEm1Minimize(x0 [1]float64, lim ConcaveLeftStro
 		case !confirmed:
 			concaveLeftStrongWolfeNWAlphaEm1GradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := concaveLeftStrongWolfeNWAlphaEm1GradientMeasure(&g, &e, &x, fx)
+		measure, floor := concaveLeftStrongWolfeNWAlphaEm1Stationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, concaveLeftStrongWolfeNWAlphaEm1Larger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func concaveLeftStrongWolfeNWAlphaEm1Minimize(x0 [1]float64, lim ConcaveLeftStro
 			if rises >= 8 {
 				return best.ending(ConcaveLeftStrongWolfeNWAlphaEm1Diverged, out.iterations, out.evaluations)
 			}
+			concaveLeftStrongWolfeNWAlphaEm1CurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(ConcaveLeftStrongWolfeNWAlphaEm1OutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		concaveLeftStrongWolfeNWAlphaEm1SearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := concaveLeftStrongWolfeNWAlphaEm1Dot(&g, &d)
 		if !(now < 0) || !concaveLeftStrongWolfeNWAlphaEm1FiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			concaveLeftStrongWolfeNWAlphaEm1SearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = concaveLeftStrongWolfeNWAlphaEm1Dot(&g, &d)
 		}
 		first := float64(concaveLeftStrongWolfeNWAlphaEm1StepInitial)
@@ -267,7 +271,7 @@ func concaveLeftStrongWolfeNWAlphaEm1Minimize(x0 [1]float64, lim ConcaveLeftStro
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := concaveLeftStrongWolfeNWAlphaEm1TinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := concaveLeftStrongWolfeNWAlphaEm1LineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := concaveLeftStrongWolfeNWAlphaEm1LineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case concaveLeftStrongWolfeNWAlphaEm1SearchOutOfBudget:
@@ -303,8 +307,7 @@ func concaveLeftStrongWolfeNWAlphaEm1Minimize(x0 [1]float64, lim ConcaveLeftStro
 				}
 				return best.ending(ConcaveLeftStrongWolfeNWAlphaEm1OutOfEvaluations, out.iterations, out.evaluations)
 			}
-			concaveLeftStrongWolfeNWAlphaEm1Derivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += concaveLeftStrongWolfeNWAlphaEm1DerivativeCost
+			out.evaluations += concaveLeftStrongWolfeNWAlphaEm1Derivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		concaveLeftStrongWolfeNWAlphaEm1Difference(&s, &xt, &x)
@@ -345,6 +348,10 @@ func (o concaveLeftStrongWolfeNWAlphaEm1Outcome) ending(end ConcaveLeftStrongWol
 	return o
 }
 
+// concaveLeftStrongWolfeNWAlphaEm1EnterBox: without bounds every start is inside.
+func concaveLeftStrongWolfeNWAlphaEm1EnterBox(x *[1]float64, b *concaveLeftStrongWolfeNWAlphaEm1Box) {
+}
+
 // concaveLeftStrongWolfeNWAlphaEm1Finite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +374,17 @@ func concaveLeftStrongWolfeNWAlphaEm1FiniteVec(x *[1]float64) bool {
 	return true
 }
 
-// concaveLeftStrongWolfeNWAlphaEm1Differences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// concaveLeftStrongWolfeNWAlphaEm1Differences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type concaveLeftStrongWolfeNWAlphaEm1Differences struct {
 	ratio     [1]float64
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see concaveLeftStrongWolfeNWAlphaEm1RoundingFloor)
+	bounds    concaveLeftStrongWolfeNWAlphaEm1Box
 }
 
 // concaveLeftStrongWolfeNWAlphaEm1Calibrate: an analytic gradient needs no intervals.
@@ -384,8 +393,9 @@ func concaveLeftStrongWolfeNWAlphaEm1Calibrate(x *[1]float64, fx float64, diffs 
 }
 
 // concaveLeftStrongWolfeNWAlphaEm1Derivative calls the user's gradient; it costs no objective calls.
-func concaveLeftStrongWolfeNWAlphaEm1Derivative(x *[1]float64, fx float64, g *[1]float64, diffs *concaveLeftStrongWolfeNWAlphaEm1Differences) {
+func concaveLeftStrongWolfeNWAlphaEm1Derivative(x *[1]float64, fx float64, g *[1]float64, diffs *concaveLeftStrongWolfeNWAlphaEm1Differences) int {
 	g[0] = ConcaveLeftDeriv(x[0])
+	return 0
 }
 
 // concaveLeftStrongWolfeNWAlphaEm1Direction is steepest descent, d = −∇f(x): the direction of
@@ -401,8 +411,22 @@ func (s *concaveLeftStrongWolfeNWAlphaEm1Direction) compute(g, d *[1]float64) {
 
 func (s *concaveLeftStrongWolfeNWAlphaEm1Direction) update(step, change *[1]float64) {}
 
+// firstTrial is the scaled trial (concaveLeftStrongWolfeNWAlphaEm1ScaledTrial), grown at most by
+// 2^(concaveLeftStrongWolfeNWAlphaEm1StepTrials/2) over the previous step t. Steepest descent is the one
+// direction paired with backtracking that scales its first trial, and
+// backtracking can only shrink: after a step that nearly solved the
+// problem the slope collapses, the ratio can exceed the range its trials
+// halve through, and the search would end with no acceptable step. The
+// cap keeps at least half the trials below the previous step (a safeguard
+// of our own; cg, whose ratios can legitimately be that large on badly
+// scaled problems, always pairs with a Wolfe search, which expands and
+// zooms instead).
 func (s *concaveLeftStrongWolfeNWAlphaEm1Direction) firstTrial(t, slope, now float64) float64 {
-	return concaveLeftStrongWolfeNWAlphaEm1ScaledTrial(t, slope, now)
+	next := concaveLeftStrongWolfeNWAlphaEm1ScaledTrial(t, slope, now)
+	if reach := t * math.Ldexp(1, concaveLeftStrongWolfeNWAlphaEm1StepTrials/2); next > reach {
+		return reach
+	}
+	return next
 }
 
 // concaveLeftStrongWolfeNWAlphaEm1Negate sets out = −x.
@@ -471,13 +495,13 @@ func concaveLeftStrongWolfeNWAlphaEm1ConfirmGradient(x *[1]float64, fx float64, 
 		wide.ratio[i] *= 2
 	}
 	var doubled [1]float64
-	concaveLeftStrongWolfeNWAlphaEm1Derivative(x, fx, g, diffs)
-	concaveLeftStrongWolfeNWAlphaEm1Derivative(x, fx, &doubled, &wide)
+	calls += concaveLeftStrongWolfeNWAlphaEm1Derivative(x, fx, g, diffs)
+	calls += concaveLeftStrongWolfeNWAlphaEm1Derivative(x, fx, &doubled, &wide)
 	concaveLeftStrongWolfeNWAlphaEm1GradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * concaveLeftStrongWolfeNWAlphaEm1Abs(g[i]-doubled[i])
 	}
-	return calls + 2*concaveLeftStrongWolfeNWAlphaEm1DerivativeCost, true
+	return calls, true
 }
 
 // concaveLeftStrongWolfeNWAlphaEm1GradientError: the analytic gradient is taken as exact; its error is
@@ -519,18 +543,60 @@ func concaveLeftStrongWolfeNWAlphaEm1DiagonalCurvature(x, g *[1]float64, diffs *
 	var moved [1]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := concaveLeftStrongWolfeNWAlphaEm1ProbeStep(xi, concaveLeftStrongWolfeNWAlphaEm1SquareRoot(concaveLeftStrongWolfeNWAlphaEm1UnitRoundoff)*concaveLeftStrongWolfeNWAlphaEm1Larger(1, concaveLeftStrongWolfeNWAlphaEm1Abs(xi)))
-		probe[i] = up
-		moved[0] = ConcaveLeftDeriv(probe[0])
-		h[i] = concaveLeftStrongWolfeNWAlphaEm1Abs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := concaveLeftStrongWolfeNWAlphaEm1CoordinateRange(i, diffs)
+		up, delta := concaveLeftStrongWolfeNWAlphaEm1ProbeStep(xi, concaveLeftStrongWolfeNWAlphaEm1OneSide(xi, concaveLeftStrongWolfeNWAlphaEm1SquareRoot(concaveLeftStrongWolfeNWAlphaEm1UnitRoundoff)*concaveLeftStrongWolfeNWAlphaEm1Larger(1, concaveLeftStrongWolfeNWAlphaEm1Abs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			moved[0] = ConcaveLeftDeriv(probe[0])
+			h[i] = concaveLeftStrongWolfeNWAlphaEm1Abs(moved[i]-g[i]) / concaveLeftStrongWolfeNWAlphaEm1Abs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// concaveLeftStrongWolfeNWAlphaEm1ProbeStep returns x_i moved by h, and the step actually representable.
-func concaveLeftStrongWolfeNWAlphaEm1ProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// concaveLeftStrongWolfeNWAlphaEm1CoordinateRange: without bounds any probe is allowed.
+func concaveLeftStrongWolfeNWAlphaEm1CoordinateRange(i int, diffs *concaveLeftStrongWolfeNWAlphaEm1Differences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// concaveLeftStrongWolfeNWAlphaEm1ProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func concaveLeftStrongWolfeNWAlphaEm1ProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := concaveLeftStrongWolfeNWAlphaEm1ClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// concaveLeftStrongWolfeNWAlphaEm1ClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func concaveLeftStrongWolfeNWAlphaEm1ClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// concaveLeftStrongWolfeNWAlphaEm1OneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func concaveLeftStrongWolfeNWAlphaEm1OneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // concaveLeftStrongWolfeNWAlphaEm1SquareRoot returns √v.
@@ -546,6 +612,11 @@ func concaveLeftStrongWolfeNWAlphaEm1Larger(a, b float64) float64 {
 		return a
 	}
 	return b
+}
+
+// concaveLeftStrongWolfeNWAlphaEm1Stationarity measures the gradient itself.
+func concaveLeftStrongWolfeNWAlphaEm1Stationarity(g, e, x *[1]float64, fx float64, b *concaveLeftStrongWolfeNWAlphaEm1Box) (measure, floor float64) {
+	return concaveLeftStrongWolfeNWAlphaEm1GradientMeasure(g, e, x, fx)
 }
 
 // concaveLeftStrongWolfeNWAlphaEm1GradientMeasure is the scale-free measure
@@ -579,6 +650,15 @@ func concaveLeftStrongWolfeNWAlphaEm1StepWithin(s, x *[1]float64, tol float64) b
 		}
 	}
 	return true
+}
+
+// concaveLeftStrongWolfeNWAlphaEm1CurvaturePair: without bounds the pair is used as it is.
+func concaveLeftStrongWolfeNWAlphaEm1CurvaturePair(s, y, x *[1]float64, b *concaveLeftStrongWolfeNWAlphaEm1Box) {
+}
+
+// concaveLeftStrongWolfeNWAlphaEm1SearchDirection is the direction's own.
+func concaveLeftStrongWolfeNWAlphaEm1SearchDirection(dir *concaveLeftStrongWolfeNWAlphaEm1Direction, x, g, d *[1]float64, b *concaveLeftStrongWolfeNWAlphaEm1Box) {
+	dir.compute(g, d)
 }
 
 // concaveLeftStrongWolfeNWAlphaEm1Dot returns aᵀb.
@@ -617,7 +697,10 @@ func concaveLeftStrongWolfeNWAlphaEm1TinyStep(x, d *[1]float64, tol float64) flo
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (concaveLeftStrongWolfeNWAlphaEm1StepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -626,13 +709,17 @@ func concaveLeftStrongWolfeNWAlphaEm1TinyStep(x, d *[1]float64, tol float64) flo
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func concaveLeftStrongWolfeNWAlphaEm1LineSearch(x *[1]float64, fx float64, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *concaveLeftStrongWolfeNWAlphaEm1Differences) concaveLeftStrongWolfeNWAlphaEm1LineResult {
+func concaveLeftStrongWolfeNWAlphaEm1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *concaveLeftStrongWolfeNWAlphaEm1Differences) concaveLeftStrongWolfeNWAlphaEm1LineResult {
 	low := concaveLeftStrongWolfeNWAlphaEm1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveLeftStrongWolfeNWAlphaEm1LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                                // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend concaveLeftStrongWolfeNWAlphaEm1RiseTrend // of the trials failing sufficient decrease
+	var trend concaveLeftStrongWolfeNWAlphaEm1RiseTrend                         // of the trials failing sufficient decrease
+	limit := concaveLeftStrongWolfeNWAlphaEm1StepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < concaveLeftStrongWolfeNWAlphaEm1StepTrials; trial++ {
 		if bracketed && concaveLeftStrongWolfeNWAlphaEm1Abs(high.step-low.step) <= tiny {
@@ -642,12 +729,12 @@ func concaveLeftStrongWolfeNWAlphaEm1LineSearch(x *[1]float64, fx float64, d *[1
 			if low.step == 0 {
 				return concaveLeftStrongWolfeNWAlphaEm1LineResult{calls: calls, rising: trend.contradicts(), end: concaveLeftStrongWolfeNWAlphaEm1TinyOrExhausted(concaveLeftStrongWolfeNWAlphaEm1Finite(high.value))}
 			}
-			return concaveLeftStrongWolfeNWAlphaEm1AcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return concaveLeftStrongWolfeNWAlphaEm1AcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return concaveLeftStrongWolfeNWAlphaEm1LineResult{calls: calls, end: concaveLeftStrongWolfeNWAlphaEm1SearchOutOfBudget}
 		}
-		concaveLeftStrongWolfeNWAlphaEm1MoveTo(xt, x, t, d)
+		concaveLeftStrongWolfeNWAlphaEm1TrialPoint(xt, x, t, d, &diffs.bounds)
 		current := concaveLeftStrongWolfeNWAlphaEm1LinePoint{step: t, value: ConcaveLeft(xt[0])}
 		calls++
 		previous := low
@@ -658,8 +745,7 @@ func concaveLeftStrongWolfeNWAlphaEm1LineSearch(x *[1]float64, fx float64, d *[1
 			if calls+concaveLeftStrongWolfeNWAlphaEm1DerivativeCost > budget {
 				return concaveLeftStrongWolfeNWAlphaEm1LineResult{calls: calls, end: concaveLeftStrongWolfeNWAlphaEm1SearchOutOfBudget}
 			}
-			concaveLeftStrongWolfeNWAlphaEm1Derivative(xt, current.value, gt, diffs)
-			calls += concaveLeftStrongWolfeNWAlphaEm1DerivativeCost
+			calls += concaveLeftStrongWolfeNWAlphaEm1Derivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = concaveLeftStrongWolfeNWAlphaEm1Dot(gt, d), true
 			switch {
 			case !concaveLeftStrongWolfeNWAlphaEm1Finite(current.slope):
@@ -670,18 +756,22 @@ func concaveLeftStrongWolfeNWAlphaEm1LineSearch(x *[1]float64, fx float64, d *[1
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return concaveLeftStrongWolfeNWAlphaEm1LineResult{step: t, value: current.value, calls: calls, gradient: true, end: concaveLeftStrongWolfeNWAlphaEm1SearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = concaveLeftStrongWolfeNWAlphaEm1ZoomTrial(&low, &high)
-		} else {
-			t = concaveLeftStrongWolfeNWAlphaEm1ExpandTrial(&previous, &current)
+		} else if t = concaveLeftStrongWolfeNWAlphaEm1ExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return concaveLeftStrongWolfeNWAlphaEm1AcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return concaveLeftStrongWolfeNWAlphaEm1AcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return concaveLeftStrongWolfeNWAlphaEm1LineResult{calls: calls, rising: trend.contradicts(), end: concaveLeftStrongWolfeNWAlphaEm1SearchExhausted}
 }
@@ -768,6 +858,11 @@ func concaveLeftStrongWolfeNWAlphaEm1FaithfulStep(x, xt, d *[1]float64, t float6
 	return true
 }
 
+// concaveLeftStrongWolfeNWAlphaEm1StepCap: without bounds a step may be as long as the search wants.
+func concaveLeftStrongWolfeNWAlphaEm1StepCap(x, d *[1]float64, tiny float64, b *concaveLeftStrongWolfeNWAlphaEm1Box) float64 {
+	return math.Inf(1)
+}
+
 // concaveLeftStrongWolfeNWAlphaEm1TinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -792,10 +887,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func concaveLeftStrongWolfeNWAlphaEm1AcceptLow(x, d *[1]float64, low *concaveLeftStrongWolfeNWAlphaEm1LinePoint, lowGradient *[1]float64, calls int, xt, gt *[1]float64) concaveLeftStrongWolfeNWAlphaEm1LineResult {
-	concaveLeftStrongWolfeNWAlphaEm1MoveTo(xt, x, low.step, d)
+func concaveLeftStrongWolfeNWAlphaEm1AcceptLow(x, d *[1]float64, low *concaveLeftStrongWolfeNWAlphaEm1LinePoint, lowGradient *[1]float64, calls int, xt, gt *[1]float64, diffs *concaveLeftStrongWolfeNWAlphaEm1Differences) concaveLeftStrongWolfeNWAlphaEm1LineResult {
+	concaveLeftStrongWolfeNWAlphaEm1TrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return concaveLeftStrongWolfeNWAlphaEm1LineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: concaveLeftStrongWolfeNWAlphaEm1SearchAccepted}
+}
+
+// concaveLeftStrongWolfeNWAlphaEm1TrialPoint is x + t·d.
+func concaveLeftStrongWolfeNWAlphaEm1TrialPoint(out, x *[1]float64, t float64, d *[1]float64, b *concaveLeftStrongWolfeNWAlphaEm1Box) {
+	concaveLeftStrongWolfeNWAlphaEm1MoveTo(out, x, t, d)
 }
 
 // concaveLeftStrongWolfeNWAlphaEm1MoveTo sets out = x + t·d.
@@ -850,21 +950,6 @@ func concaveLeftStrongWolfeNWAlphaEm1ModelMinimizer(a, b *concaveLeftStrongWolfe
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, concaveLeftStrongWolfeNWAlphaEm1Finite(t)
-}
-
-// concaveLeftStrongWolfeNWAlphaEm1ClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func concaveLeftStrongWolfeNWAlphaEm1ClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // concaveLeftStrongWolfeNWAlphaEm1ExpandTrial picks a larger trial after current met sufficient decrease

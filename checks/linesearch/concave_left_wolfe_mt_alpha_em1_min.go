@@ -88,6 +88,9 @@ func ConcaveLeftWolfeMTAlphaEm1DefaultLimits() ConcaveLeftWolfeMTAlphaEm1Limits 
 	}
 }
 
+// concaveLeftWolfeMTAlphaEm1Box is empty: linesearch.toml sets no bounds on ConcaveLeftWolfeMTAlphaEm1.
+type concaveLeftWolfeMTAlphaEm1Box struct{}
+
 // ConcaveLeftWolfeMTAlphaEm1 minimizes ConcaveLeft from x0, as linesearch.toml specifies.
 //
 // Direction steepest: steepest descent, d = −∇f; no memory, linear convergence.
@@ -105,7 +108,7 @@ func ConcaveLeftWolfeMTAlphaEm1(x0 float64) ConcaveLeftWolfeMTAlphaEm1Result {
 
 // ConcaveLeftWolfeMTAlphaEm1WithLimits is ConcaveLeftWolfeMTAlphaEm1 with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func ConcaveLeftWolfeMTAlphaEm1WithLimits(x0 float64, limits ConcaveLeftWolfeMTAlphaEm1Limits) ConcaveLeftWolfeMTAlphaEm1Result {
-	out := concaveLeftWolfeMTAlphaEm1Minimize([1]float64{x0}, limits)
+	out := concaveLeftWolfeMTAlphaEm1Minimize([1]float64{x0}, limits, concaveLeftWolfeMTAlphaEm1Box{})
 	return ConcaveLeftWolfeMTAlphaEm1Result{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func concaveLeftWolfeMTAlphaEm1Minimize(x0 [1]float64, lim ConcaveLeftWolfeMTAlphaEm1Limits) concaveLeftWolfeMTAlphaEm1Outcome {
-	out := concaveLeftWolfeMTAlphaEm1Outcome{x: x0, status: ConcaveLeftWolfeMTAlphaEm1OutOfEvaluations, gradient: math.NaN()}
+func concaveLeftWolfeMTAlphaEm1Minimize(x0 [1]float64, lim ConcaveLeftWolfeMTAlphaEm1Limits, bounds concaveLeftWolfeMTAlphaEm1Box) concaveLeftWolfeMTAlphaEm1Outcome {
+	x := x0
+	concaveLeftWolfeMTAlphaEm1EnterBox(&x, &bounds)
+	out := concaveLeftWolfeMTAlphaEm1Outcome{x: x, status: ConcaveLeftWolfeMTAlphaEm1OutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := ConcaveLeft(x[0])
 	out.f, out.evaluations = fx, 1
 	if !concaveLeftWolfeMTAlphaEm1Finite(fx) || !concaveLeftWolfeMTAlphaEm1FiniteVec(&x) {
 		out.status = ConcaveLeftWolfeMTAlphaEm1NonFiniteStart
 		return out
 	}
-	var diffs concaveLeftWolfeMTAlphaEm1Differences
+	diffs := concaveLeftWolfeMTAlphaEm1Differences{bounds: bounds}
 	calls, ok := concaveLeftWolfeMTAlphaEm1Calibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+concaveLeftWolfeMTAlphaEm1DerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [1]float64
-	concaveLeftWolfeMTAlphaEm1Derivative(&x, fx, &g, &diffs)
-	out.evaluations += concaveLeftWolfeMTAlphaEm1DerivativeCost
+	out.evaluations += concaveLeftWolfeMTAlphaEm1Derivative(&x, fx, &g, &diffs)
 
 	if !concaveLeftWolfeMTAlphaEm1FiniteVec(&g) {
 		out.status = ConcaveLeftWolfeMTAlphaEm1NonFiniteGradient
@@ -211,7 +214,7 @@ func concaveLeftWolfeMTAlphaEm1Minimize(x0 [1]float64, lim ConcaveLeftWolfeMTAlp
 		case !confirmed:
 			concaveLeftWolfeMTAlphaEm1GradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := concaveLeftWolfeMTAlphaEm1GradientMeasure(&g, &e, &x, fx)
+		measure, floor := concaveLeftWolfeMTAlphaEm1Stationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, concaveLeftWolfeMTAlphaEm1Larger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func concaveLeftWolfeMTAlphaEm1Minimize(x0 [1]float64, lim ConcaveLeftWolfeMTAlp
 			if rises >= 8 {
 				return best.ending(ConcaveLeftWolfeMTAlphaEm1Diverged, out.iterations, out.evaluations)
 			}
+			concaveLeftWolfeMTAlphaEm1CurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(ConcaveLeftWolfeMTAlphaEm1OutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		concaveLeftWolfeMTAlphaEm1SearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := concaveLeftWolfeMTAlphaEm1Dot(&g, &d)
 		if !(now < 0) || !concaveLeftWolfeMTAlphaEm1FiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			concaveLeftWolfeMTAlphaEm1SearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = concaveLeftWolfeMTAlphaEm1Dot(&g, &d)
 		}
 		first := float64(concaveLeftWolfeMTAlphaEm1StepInitial)
@@ -267,7 +271,7 @@ func concaveLeftWolfeMTAlphaEm1Minimize(x0 [1]float64, lim ConcaveLeftWolfeMTAlp
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := concaveLeftWolfeMTAlphaEm1TinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := concaveLeftWolfeMTAlphaEm1LineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := concaveLeftWolfeMTAlphaEm1LineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case concaveLeftWolfeMTAlphaEm1SearchOutOfBudget:
@@ -303,8 +307,7 @@ func concaveLeftWolfeMTAlphaEm1Minimize(x0 [1]float64, lim ConcaveLeftWolfeMTAlp
 				}
 				return best.ending(ConcaveLeftWolfeMTAlphaEm1OutOfEvaluations, out.iterations, out.evaluations)
 			}
-			concaveLeftWolfeMTAlphaEm1Derivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += concaveLeftWolfeMTAlphaEm1DerivativeCost
+			out.evaluations += concaveLeftWolfeMTAlphaEm1Derivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		concaveLeftWolfeMTAlphaEm1Difference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o concaveLeftWolfeMTAlphaEm1Outcome) ending(end ConcaveLeftWolfeMTAlphaEm1
 	return o
 }
 
+// concaveLeftWolfeMTAlphaEm1EnterBox: without bounds every start is inside.
+func concaveLeftWolfeMTAlphaEm1EnterBox(x *[1]float64, b *concaveLeftWolfeMTAlphaEm1Box) {}
+
 // concaveLeftWolfeMTAlphaEm1Finite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func concaveLeftWolfeMTAlphaEm1FiniteVec(x *[1]float64) bool {
 	return true
 }
 
-// concaveLeftWolfeMTAlphaEm1Differences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// concaveLeftWolfeMTAlphaEm1Differences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type concaveLeftWolfeMTAlphaEm1Differences struct {
 	ratio     [1]float64
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see concaveLeftWolfeMTAlphaEm1RoundingFloor)
+	bounds    concaveLeftWolfeMTAlphaEm1Box
 }
 
 // concaveLeftWolfeMTAlphaEm1Calibrate: an analytic gradient needs no intervals.
@@ -384,8 +392,9 @@ func concaveLeftWolfeMTAlphaEm1Calibrate(x *[1]float64, fx float64, diffs *conca
 }
 
 // concaveLeftWolfeMTAlphaEm1Derivative calls the user's gradient; it costs no objective calls.
-func concaveLeftWolfeMTAlphaEm1Derivative(x *[1]float64, fx float64, g *[1]float64, diffs *concaveLeftWolfeMTAlphaEm1Differences) {
+func concaveLeftWolfeMTAlphaEm1Derivative(x *[1]float64, fx float64, g *[1]float64, diffs *concaveLeftWolfeMTAlphaEm1Differences) int {
 	g[0] = ConcaveLeftDeriv(x[0])
+	return 0
 }
 
 // concaveLeftWolfeMTAlphaEm1Direction is steepest descent, d = −∇f(x): the direction of
@@ -401,8 +410,22 @@ func (s *concaveLeftWolfeMTAlphaEm1Direction) compute(g, d *[1]float64) {
 
 func (s *concaveLeftWolfeMTAlphaEm1Direction) update(step, change *[1]float64) {}
 
+// firstTrial is the scaled trial (concaveLeftWolfeMTAlphaEm1ScaledTrial), grown at most by
+// 2^(concaveLeftWolfeMTAlphaEm1StepTrials/2) over the previous step t. Steepest descent is the one
+// direction paired with backtracking that scales its first trial, and
+// backtracking can only shrink: after a step that nearly solved the
+// problem the slope collapses, the ratio can exceed the range its trials
+// halve through, and the search would end with no acceptable step. The
+// cap keeps at least half the trials below the previous step (a safeguard
+// of our own; cg, whose ratios can legitimately be that large on badly
+// scaled problems, always pairs with a Wolfe search, which expands and
+// zooms instead).
 func (s *concaveLeftWolfeMTAlphaEm1Direction) firstTrial(t, slope, now float64) float64 {
-	return concaveLeftWolfeMTAlphaEm1ScaledTrial(t, slope, now)
+	next := concaveLeftWolfeMTAlphaEm1ScaledTrial(t, slope, now)
+	if reach := t * math.Ldexp(1, concaveLeftWolfeMTAlphaEm1StepTrials/2); next > reach {
+		return reach
+	}
+	return next
 }
 
 // concaveLeftWolfeMTAlphaEm1Negate sets out = −x.
@@ -471,13 +494,13 @@ func concaveLeftWolfeMTAlphaEm1ConfirmGradient(x *[1]float64, fx float64, g, e *
 		wide.ratio[i] *= 2
 	}
 	var doubled [1]float64
-	concaveLeftWolfeMTAlphaEm1Derivative(x, fx, g, diffs)
-	concaveLeftWolfeMTAlphaEm1Derivative(x, fx, &doubled, &wide)
+	calls += concaveLeftWolfeMTAlphaEm1Derivative(x, fx, g, diffs)
+	calls += concaveLeftWolfeMTAlphaEm1Derivative(x, fx, &doubled, &wide)
 	concaveLeftWolfeMTAlphaEm1GradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * concaveLeftWolfeMTAlphaEm1Abs(g[i]-doubled[i])
 	}
-	return calls + 2*concaveLeftWolfeMTAlphaEm1DerivativeCost, true
+	return calls, true
 }
 
 // concaveLeftWolfeMTAlphaEm1GradientError: the analytic gradient is taken as exact; its error is
@@ -519,18 +542,60 @@ func concaveLeftWolfeMTAlphaEm1DiagonalCurvature(x, g *[1]float64, diffs *concav
 	var moved [1]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := concaveLeftWolfeMTAlphaEm1ProbeStep(xi, concaveLeftWolfeMTAlphaEm1SquareRoot(concaveLeftWolfeMTAlphaEm1UnitRoundoff)*concaveLeftWolfeMTAlphaEm1Larger(1, concaveLeftWolfeMTAlphaEm1Abs(xi)))
-		probe[i] = up
-		moved[0] = ConcaveLeftDeriv(probe[0])
-		h[i] = concaveLeftWolfeMTAlphaEm1Abs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := concaveLeftWolfeMTAlphaEm1CoordinateRange(i, diffs)
+		up, delta := concaveLeftWolfeMTAlphaEm1ProbeStep(xi, concaveLeftWolfeMTAlphaEm1OneSide(xi, concaveLeftWolfeMTAlphaEm1SquareRoot(concaveLeftWolfeMTAlphaEm1UnitRoundoff)*concaveLeftWolfeMTAlphaEm1Larger(1, concaveLeftWolfeMTAlphaEm1Abs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			moved[0] = ConcaveLeftDeriv(probe[0])
+			h[i] = concaveLeftWolfeMTAlphaEm1Abs(moved[i]-g[i]) / concaveLeftWolfeMTAlphaEm1Abs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// concaveLeftWolfeMTAlphaEm1ProbeStep returns x_i moved by h, and the step actually representable.
-func concaveLeftWolfeMTAlphaEm1ProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// concaveLeftWolfeMTAlphaEm1CoordinateRange: without bounds any probe is allowed.
+func concaveLeftWolfeMTAlphaEm1CoordinateRange(i int, diffs *concaveLeftWolfeMTAlphaEm1Differences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// concaveLeftWolfeMTAlphaEm1ProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func concaveLeftWolfeMTAlphaEm1ProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := concaveLeftWolfeMTAlphaEm1ClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// concaveLeftWolfeMTAlphaEm1ClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func concaveLeftWolfeMTAlphaEm1ClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// concaveLeftWolfeMTAlphaEm1OneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func concaveLeftWolfeMTAlphaEm1OneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // concaveLeftWolfeMTAlphaEm1SquareRoot returns √v.
@@ -546,6 +611,11 @@ func concaveLeftWolfeMTAlphaEm1Larger(a, b float64) float64 {
 		return a
 	}
 	return b
+}
+
+// concaveLeftWolfeMTAlphaEm1Stationarity measures the gradient itself.
+func concaveLeftWolfeMTAlphaEm1Stationarity(g, e, x *[1]float64, fx float64, b *concaveLeftWolfeMTAlphaEm1Box) (measure, floor float64) {
+	return concaveLeftWolfeMTAlphaEm1GradientMeasure(g, e, x, fx)
 }
 
 // concaveLeftWolfeMTAlphaEm1GradientMeasure is the scale-free measure
@@ -579,6 +649,14 @@ func concaveLeftWolfeMTAlphaEm1StepWithin(s, x *[1]float64, tol float64) bool {
 		}
 	}
 	return true
+}
+
+// concaveLeftWolfeMTAlphaEm1CurvaturePair: without bounds the pair is used as it is.
+func concaveLeftWolfeMTAlphaEm1CurvaturePair(s, y, x *[1]float64, b *concaveLeftWolfeMTAlphaEm1Box) {}
+
+// concaveLeftWolfeMTAlphaEm1SearchDirection is the direction's own.
+func concaveLeftWolfeMTAlphaEm1SearchDirection(dir *concaveLeftWolfeMTAlphaEm1Direction, x, g, d *[1]float64, b *concaveLeftWolfeMTAlphaEm1Box) {
+	dir.compute(g, d)
 }
 
 // concaveLeftWolfeMTAlphaEm1Dot returns aᵀb.
@@ -617,7 +695,10 @@ func concaveLeftWolfeMTAlphaEm1TinyStep(x, d *[1]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (concaveLeftWolfeMTAlphaEm1StepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -626,13 +707,17 @@ func concaveLeftWolfeMTAlphaEm1TinyStep(x, d *[1]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func concaveLeftWolfeMTAlphaEm1LineSearch(x *[1]float64, fx float64, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *concaveLeftWolfeMTAlphaEm1Differences) concaveLeftWolfeMTAlphaEm1LineResult {
+func concaveLeftWolfeMTAlphaEm1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *concaveLeftWolfeMTAlphaEm1Differences) concaveLeftWolfeMTAlphaEm1LineResult {
 	low := concaveLeftWolfeMTAlphaEm1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveLeftWolfeMTAlphaEm1LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                          // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend concaveLeftWolfeMTAlphaEm1RiseTrend // of the trials failing sufficient decrease
+	var trend concaveLeftWolfeMTAlphaEm1RiseTrend                         // of the trials failing sufficient decrease
+	limit := concaveLeftWolfeMTAlphaEm1StepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < concaveLeftWolfeMTAlphaEm1StepTrials; trial++ {
 		if bracketed && concaveLeftWolfeMTAlphaEm1Abs(high.step-low.step) <= tiny {
@@ -642,12 +727,12 @@ func concaveLeftWolfeMTAlphaEm1LineSearch(x *[1]float64, fx float64, d *[1]float
 			if low.step == 0 {
 				return concaveLeftWolfeMTAlphaEm1LineResult{calls: calls, rising: trend.contradicts(), end: concaveLeftWolfeMTAlphaEm1TinyOrExhausted(concaveLeftWolfeMTAlphaEm1Finite(high.value))}
 			}
-			return concaveLeftWolfeMTAlphaEm1AcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return concaveLeftWolfeMTAlphaEm1AcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return concaveLeftWolfeMTAlphaEm1LineResult{calls: calls, end: concaveLeftWolfeMTAlphaEm1SearchOutOfBudget}
 		}
-		concaveLeftWolfeMTAlphaEm1MoveTo(xt, x, t, d)
+		concaveLeftWolfeMTAlphaEm1TrialPoint(xt, x, t, d, &diffs.bounds)
 		current := concaveLeftWolfeMTAlphaEm1LinePoint{step: t, value: ConcaveLeft(xt[0])}
 		calls++
 		previous := low
@@ -658,8 +743,7 @@ func concaveLeftWolfeMTAlphaEm1LineSearch(x *[1]float64, fx float64, d *[1]float
 			if calls+concaveLeftWolfeMTAlphaEm1DerivativeCost > budget {
 				return concaveLeftWolfeMTAlphaEm1LineResult{calls: calls, end: concaveLeftWolfeMTAlphaEm1SearchOutOfBudget}
 			}
-			concaveLeftWolfeMTAlphaEm1Derivative(xt, current.value, gt, diffs)
-			calls += concaveLeftWolfeMTAlphaEm1DerivativeCost
+			calls += concaveLeftWolfeMTAlphaEm1Derivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = concaveLeftWolfeMTAlphaEm1Dot(gt, d), true
 			switch {
 			case !concaveLeftWolfeMTAlphaEm1Finite(current.slope):
@@ -670,18 +754,22 @@ func concaveLeftWolfeMTAlphaEm1LineSearch(x *[1]float64, fx float64, d *[1]float
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return concaveLeftWolfeMTAlphaEm1LineResult{step: t, value: current.value, calls: calls, gradient: true, end: concaveLeftWolfeMTAlphaEm1SearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = concaveLeftWolfeMTAlphaEm1ZoomTrial(&low, &high)
-		} else {
-			t = concaveLeftWolfeMTAlphaEm1ExpandTrial(&previous, &current)
+		} else if t = concaveLeftWolfeMTAlphaEm1ExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return concaveLeftWolfeMTAlphaEm1AcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return concaveLeftWolfeMTAlphaEm1AcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return concaveLeftWolfeMTAlphaEm1LineResult{calls: calls, rising: trend.contradicts(), end: concaveLeftWolfeMTAlphaEm1SearchExhausted}
 }
@@ -768,6 +856,11 @@ func concaveLeftWolfeMTAlphaEm1FaithfulStep(x, xt, d *[1]float64, t float64) boo
 	return true
 }
 
+// concaveLeftWolfeMTAlphaEm1StepCap: without bounds a step may be as long as the search wants.
+func concaveLeftWolfeMTAlphaEm1StepCap(x, d *[1]float64, tiny float64, b *concaveLeftWolfeMTAlphaEm1Box) float64 {
+	return math.Inf(1)
+}
+
 // concaveLeftWolfeMTAlphaEm1TinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -792,10 +885,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func concaveLeftWolfeMTAlphaEm1AcceptLow(x, d *[1]float64, low *concaveLeftWolfeMTAlphaEm1LinePoint, lowGradient *[1]float64, calls int, xt, gt *[1]float64) concaveLeftWolfeMTAlphaEm1LineResult {
-	concaveLeftWolfeMTAlphaEm1MoveTo(xt, x, low.step, d)
+func concaveLeftWolfeMTAlphaEm1AcceptLow(x, d *[1]float64, low *concaveLeftWolfeMTAlphaEm1LinePoint, lowGradient *[1]float64, calls int, xt, gt *[1]float64, diffs *concaveLeftWolfeMTAlphaEm1Differences) concaveLeftWolfeMTAlphaEm1LineResult {
+	concaveLeftWolfeMTAlphaEm1TrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return concaveLeftWolfeMTAlphaEm1LineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: concaveLeftWolfeMTAlphaEm1SearchAccepted}
+}
+
+// concaveLeftWolfeMTAlphaEm1TrialPoint is x + t·d.
+func concaveLeftWolfeMTAlphaEm1TrialPoint(out, x *[1]float64, t float64, d *[1]float64, b *concaveLeftWolfeMTAlphaEm1Box) {
+	concaveLeftWolfeMTAlphaEm1MoveTo(out, x, t, d)
 }
 
 // concaveLeftWolfeMTAlphaEm1MoveTo sets out = x + t·d.
@@ -850,21 +948,6 @@ func concaveLeftWolfeMTAlphaEm1ModelMinimizer(a, b *concaveLeftWolfeMTAlphaEm1Li
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, concaveLeftWolfeMTAlphaEm1Finite(t)
-}
-
-// concaveLeftWolfeMTAlphaEm1ClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func concaveLeftWolfeMTAlphaEm1ClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // concaveLeftWolfeMTAlphaEm1ExpandTrial picks a larger trial after current met sufficient decrease

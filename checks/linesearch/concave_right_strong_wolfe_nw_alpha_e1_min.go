@@ -88,6 +88,9 @@ func ConcaveRightStrongWolfeNWAlphaE1DefaultLimits() ConcaveRightStrongWolfeNWAl
 	}
 }
 
+// concaveRightStrongWolfeNWAlphaE1Box is empty: linesearch.toml sets no bounds on ConcaveRightStrongWolfeNWAlphaE1.
+type concaveRightStrongWolfeNWAlphaE1Box struct{}
+
 // ConcaveRightStrongWolfeNWAlphaE1 minimizes ConcaveRight from x0, as linesearch.toml specifies.
 //
 // Direction steepest: steepest descent, d = −∇f; no memory, linear convergence.
@@ -105,7 +108,7 @@ func ConcaveRightStrongWolfeNWAlphaE1(x0 float64) ConcaveRightStrongWolfeNWAlpha
 
 // ConcaveRightStrongWolfeNWAlphaE1WithLimits is ConcaveRightStrongWolfeNWAlphaE1 with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func ConcaveRightStrongWolfeNWAlphaE1WithLimits(x0 float64, limits ConcaveRightStrongWolfeNWAlphaE1Limits) ConcaveRightStrongWolfeNWAlphaE1Result {
-	out := concaveRightStrongWolfeNWAlphaE1Minimize([1]float64{x0}, limits)
+	out := concaveRightStrongWolfeNWAlphaE1Minimize([1]float64{x0}, limits, concaveRightStrongWolfeNWAlphaE1Box{})
 	return ConcaveRightStrongWolfeNWAlphaE1Result{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func concaveRightStrongWolfeNWAlphaE1Minimize(x0 [1]float64, lim ConcaveRightStrongWolfeNWAlphaE1Limits) concaveRightStrongWolfeNWAlphaE1Outcome {
-	out := concaveRightStrongWolfeNWAlphaE1Outcome{x: x0, status: ConcaveRightStrongWolfeNWAlphaE1OutOfEvaluations, gradient: math.NaN()}
+func concaveRightStrongWolfeNWAlphaE1Minimize(x0 [1]float64, lim ConcaveRightStrongWolfeNWAlphaE1Limits, bounds concaveRightStrongWolfeNWAlphaE1Box) concaveRightStrongWolfeNWAlphaE1Outcome {
+	x := x0
+	concaveRightStrongWolfeNWAlphaE1EnterBox(&x, &bounds)
+	out := concaveRightStrongWolfeNWAlphaE1Outcome{x: x, status: ConcaveRightStrongWolfeNWAlphaE1OutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := ConcaveRight(x[0])
 	out.f, out.evaluations = fx, 1
 	if !concaveRightStrongWolfeNWAlphaE1Finite(fx) || !concaveRightStrongWolfeNWAlphaE1FiniteVec(&x) {
 		out.status = ConcaveRightStrongWolfeNWAlphaE1NonFiniteStart
 		return out
 	}
-	var diffs concaveRightStrongWolfeNWAlphaE1Differences
+	diffs := concaveRightStrongWolfeNWAlphaE1Differences{bounds: bounds}
 	calls, ok := concaveRightStrongWolfeNWAlphaE1Calibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+concaveRightStrongWolfeNWAlphaE1DerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [1]float64
-	concaveRightStrongWolfeNWAlphaE1Derivative(&x, fx, &g, &diffs)
-	out.evaluations += concaveRightStrongWolfeNWAlphaE1DerivativeCost
+	out.evaluations += concaveRightStrongWolfeNWAlphaE1Derivative(&x, fx, &g, &diffs)
 
 	if !concaveRightStrongWolfeNWAlphaE1FiniteVec(&g) {
 		out.status = ConcaveRightStrongWolfeNWAlphaE1NonFiniteGradient
@@ -211,7 +214,7 @@ func concaveRightStrongWolfeNWAlphaE1Minimize(x0 [1]float64, lim ConcaveRightStr
 		case !confirmed:
 			concaveRightStrongWolfeNWAlphaE1GradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := concaveRightStrongWolfeNWAlphaE1GradientMeasure(&g, &e, &x, fx)
+		measure, floor := concaveRightStrongWolfeNWAlphaE1Stationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, concaveRightStrongWolfeNWAlphaE1Larger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func concaveRightStrongWolfeNWAlphaE1Minimize(x0 [1]float64, lim ConcaveRightStr
 			if rises >= 8 {
 				return best.ending(ConcaveRightStrongWolfeNWAlphaE1Diverged, out.iterations, out.evaluations)
 			}
+			concaveRightStrongWolfeNWAlphaE1CurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(ConcaveRightStrongWolfeNWAlphaE1OutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		concaveRightStrongWolfeNWAlphaE1SearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := concaveRightStrongWolfeNWAlphaE1Dot(&g, &d)
 		if !(now < 0) || !concaveRightStrongWolfeNWAlphaE1FiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			concaveRightStrongWolfeNWAlphaE1SearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = concaveRightStrongWolfeNWAlphaE1Dot(&g, &d)
 		}
 		first := float64(concaveRightStrongWolfeNWAlphaE1StepInitial)
@@ -267,7 +271,7 @@ func concaveRightStrongWolfeNWAlphaE1Minimize(x0 [1]float64, lim ConcaveRightStr
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := concaveRightStrongWolfeNWAlphaE1TinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := concaveRightStrongWolfeNWAlphaE1LineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := concaveRightStrongWolfeNWAlphaE1LineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case concaveRightStrongWolfeNWAlphaE1SearchOutOfBudget:
@@ -303,8 +307,7 @@ func concaveRightStrongWolfeNWAlphaE1Minimize(x0 [1]float64, lim ConcaveRightStr
 				}
 				return best.ending(ConcaveRightStrongWolfeNWAlphaE1OutOfEvaluations, out.iterations, out.evaluations)
 			}
-			concaveRightStrongWolfeNWAlphaE1Derivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += concaveRightStrongWolfeNWAlphaE1DerivativeCost
+			out.evaluations += concaveRightStrongWolfeNWAlphaE1Derivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		concaveRightStrongWolfeNWAlphaE1Difference(&s, &xt, &x)
@@ -345,6 +348,10 @@ func (o concaveRightStrongWolfeNWAlphaE1Outcome) ending(end ConcaveRightStrongWo
 	return o
 }
 
+// concaveRightStrongWolfeNWAlphaE1EnterBox: without bounds every start is inside.
+func concaveRightStrongWolfeNWAlphaE1EnterBox(x *[1]float64, b *concaveRightStrongWolfeNWAlphaE1Box) {
+}
+
 // concaveRightStrongWolfeNWAlphaE1Finite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +374,17 @@ func concaveRightStrongWolfeNWAlphaE1FiniteVec(x *[1]float64) bool {
 	return true
 }
 
-// concaveRightStrongWolfeNWAlphaE1Differences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// concaveRightStrongWolfeNWAlphaE1Differences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type concaveRightStrongWolfeNWAlphaE1Differences struct {
 	ratio     [1]float64
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see concaveRightStrongWolfeNWAlphaE1RoundingFloor)
+	bounds    concaveRightStrongWolfeNWAlphaE1Box
 }
 
 // concaveRightStrongWolfeNWAlphaE1Calibrate: an analytic gradient needs no intervals.
@@ -384,8 +393,9 @@ func concaveRightStrongWolfeNWAlphaE1Calibrate(x *[1]float64, fx float64, diffs 
 }
 
 // concaveRightStrongWolfeNWAlphaE1Derivative calls the user's gradient; it costs no objective calls.
-func concaveRightStrongWolfeNWAlphaE1Derivative(x *[1]float64, fx float64, g *[1]float64, diffs *concaveRightStrongWolfeNWAlphaE1Differences) {
+func concaveRightStrongWolfeNWAlphaE1Derivative(x *[1]float64, fx float64, g *[1]float64, diffs *concaveRightStrongWolfeNWAlphaE1Differences) int {
 	g[0] = ConcaveRightDeriv(x[0])
+	return 0
 }
 
 // concaveRightStrongWolfeNWAlphaE1Direction is steepest descent, d = −∇f(x): the direction of
@@ -401,8 +411,22 @@ func (s *concaveRightStrongWolfeNWAlphaE1Direction) compute(g, d *[1]float64) {
 
 func (s *concaveRightStrongWolfeNWAlphaE1Direction) update(step, change *[1]float64) {}
 
+// firstTrial is the scaled trial (concaveRightStrongWolfeNWAlphaE1ScaledTrial), grown at most by
+// 2^(concaveRightStrongWolfeNWAlphaE1StepTrials/2) over the previous step t. Steepest descent is the one
+// direction paired with backtracking that scales its first trial, and
+// backtracking can only shrink: after a step that nearly solved the
+// problem the slope collapses, the ratio can exceed the range its trials
+// halve through, and the search would end with no acceptable step. The
+// cap keeps at least half the trials below the previous step (a safeguard
+// of our own; cg, whose ratios can legitimately be that large on badly
+// scaled problems, always pairs with a Wolfe search, which expands and
+// zooms instead).
 func (s *concaveRightStrongWolfeNWAlphaE1Direction) firstTrial(t, slope, now float64) float64 {
-	return concaveRightStrongWolfeNWAlphaE1ScaledTrial(t, slope, now)
+	next := concaveRightStrongWolfeNWAlphaE1ScaledTrial(t, slope, now)
+	if reach := t * math.Ldexp(1, concaveRightStrongWolfeNWAlphaE1StepTrials/2); next > reach {
+		return reach
+	}
+	return next
 }
 
 // concaveRightStrongWolfeNWAlphaE1Negate sets out = −x.
@@ -471,13 +495,13 @@ func concaveRightStrongWolfeNWAlphaE1ConfirmGradient(x *[1]float64, fx float64, 
 		wide.ratio[i] *= 2
 	}
 	var doubled [1]float64
-	concaveRightStrongWolfeNWAlphaE1Derivative(x, fx, g, diffs)
-	concaveRightStrongWolfeNWAlphaE1Derivative(x, fx, &doubled, &wide)
+	calls += concaveRightStrongWolfeNWAlphaE1Derivative(x, fx, g, diffs)
+	calls += concaveRightStrongWolfeNWAlphaE1Derivative(x, fx, &doubled, &wide)
 	concaveRightStrongWolfeNWAlphaE1GradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * concaveRightStrongWolfeNWAlphaE1Abs(g[i]-doubled[i])
 	}
-	return calls + 2*concaveRightStrongWolfeNWAlphaE1DerivativeCost, true
+	return calls, true
 }
 
 // concaveRightStrongWolfeNWAlphaE1GradientError: the analytic gradient is taken as exact; its error is
@@ -519,18 +543,60 @@ func concaveRightStrongWolfeNWAlphaE1DiagonalCurvature(x, g *[1]float64, diffs *
 	var moved [1]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := concaveRightStrongWolfeNWAlphaE1ProbeStep(xi, concaveRightStrongWolfeNWAlphaE1SquareRoot(concaveRightStrongWolfeNWAlphaE1UnitRoundoff)*concaveRightStrongWolfeNWAlphaE1Larger(1, concaveRightStrongWolfeNWAlphaE1Abs(xi)))
-		probe[i] = up
-		moved[0] = ConcaveRightDeriv(probe[0])
-		h[i] = concaveRightStrongWolfeNWAlphaE1Abs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := concaveRightStrongWolfeNWAlphaE1CoordinateRange(i, diffs)
+		up, delta := concaveRightStrongWolfeNWAlphaE1ProbeStep(xi, concaveRightStrongWolfeNWAlphaE1OneSide(xi, concaveRightStrongWolfeNWAlphaE1SquareRoot(concaveRightStrongWolfeNWAlphaE1UnitRoundoff)*concaveRightStrongWolfeNWAlphaE1Larger(1, concaveRightStrongWolfeNWAlphaE1Abs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			moved[0] = ConcaveRightDeriv(probe[0])
+			h[i] = concaveRightStrongWolfeNWAlphaE1Abs(moved[i]-g[i]) / concaveRightStrongWolfeNWAlphaE1Abs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// concaveRightStrongWolfeNWAlphaE1ProbeStep returns x_i moved by h, and the step actually representable.
-func concaveRightStrongWolfeNWAlphaE1ProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// concaveRightStrongWolfeNWAlphaE1CoordinateRange: without bounds any probe is allowed.
+func concaveRightStrongWolfeNWAlphaE1CoordinateRange(i int, diffs *concaveRightStrongWolfeNWAlphaE1Differences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// concaveRightStrongWolfeNWAlphaE1ProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func concaveRightStrongWolfeNWAlphaE1ProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := concaveRightStrongWolfeNWAlphaE1ClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// concaveRightStrongWolfeNWAlphaE1ClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func concaveRightStrongWolfeNWAlphaE1ClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// concaveRightStrongWolfeNWAlphaE1OneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func concaveRightStrongWolfeNWAlphaE1OneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // concaveRightStrongWolfeNWAlphaE1SquareRoot returns √v.
@@ -546,6 +612,11 @@ func concaveRightStrongWolfeNWAlphaE1Larger(a, b float64) float64 {
 		return a
 	}
 	return b
+}
+
+// concaveRightStrongWolfeNWAlphaE1Stationarity measures the gradient itself.
+func concaveRightStrongWolfeNWAlphaE1Stationarity(g, e, x *[1]float64, fx float64, b *concaveRightStrongWolfeNWAlphaE1Box) (measure, floor float64) {
+	return concaveRightStrongWolfeNWAlphaE1GradientMeasure(g, e, x, fx)
 }
 
 // concaveRightStrongWolfeNWAlphaE1GradientMeasure is the scale-free measure
@@ -579,6 +650,15 @@ func concaveRightStrongWolfeNWAlphaE1StepWithin(s, x *[1]float64, tol float64) b
 		}
 	}
 	return true
+}
+
+// concaveRightStrongWolfeNWAlphaE1CurvaturePair: without bounds the pair is used as it is.
+func concaveRightStrongWolfeNWAlphaE1CurvaturePair(s, y, x *[1]float64, b *concaveRightStrongWolfeNWAlphaE1Box) {
+}
+
+// concaveRightStrongWolfeNWAlphaE1SearchDirection is the direction's own.
+func concaveRightStrongWolfeNWAlphaE1SearchDirection(dir *concaveRightStrongWolfeNWAlphaE1Direction, x, g, d *[1]float64, b *concaveRightStrongWolfeNWAlphaE1Box) {
+	dir.compute(g, d)
 }
 
 // concaveRightStrongWolfeNWAlphaE1Dot returns aᵀb.
@@ -617,7 +697,10 @@ func concaveRightStrongWolfeNWAlphaE1TinyStep(x, d *[1]float64, tol float64) flo
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (concaveRightStrongWolfeNWAlphaE1StepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -626,13 +709,17 @@ func concaveRightStrongWolfeNWAlphaE1TinyStep(x, d *[1]float64, tol float64) flo
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func concaveRightStrongWolfeNWAlphaE1LineSearch(x *[1]float64, fx float64, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *concaveRightStrongWolfeNWAlphaE1Differences) concaveRightStrongWolfeNWAlphaE1LineResult {
+func concaveRightStrongWolfeNWAlphaE1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *concaveRightStrongWolfeNWAlphaE1Differences) concaveRightStrongWolfeNWAlphaE1LineResult {
 	low := concaveRightStrongWolfeNWAlphaE1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveRightStrongWolfeNWAlphaE1LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                                // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend concaveRightStrongWolfeNWAlphaE1RiseTrend // of the trials failing sufficient decrease
+	var trend concaveRightStrongWolfeNWAlphaE1RiseTrend                         // of the trials failing sufficient decrease
+	limit := concaveRightStrongWolfeNWAlphaE1StepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < concaveRightStrongWolfeNWAlphaE1StepTrials; trial++ {
 		if bracketed && concaveRightStrongWolfeNWAlphaE1Abs(high.step-low.step) <= tiny {
@@ -642,12 +729,12 @@ func concaveRightStrongWolfeNWAlphaE1LineSearch(x *[1]float64, fx float64, d *[1
 			if low.step == 0 {
 				return concaveRightStrongWolfeNWAlphaE1LineResult{calls: calls, rising: trend.contradicts(), end: concaveRightStrongWolfeNWAlphaE1TinyOrExhausted(concaveRightStrongWolfeNWAlphaE1Finite(high.value))}
 			}
-			return concaveRightStrongWolfeNWAlphaE1AcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return concaveRightStrongWolfeNWAlphaE1AcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return concaveRightStrongWolfeNWAlphaE1LineResult{calls: calls, end: concaveRightStrongWolfeNWAlphaE1SearchOutOfBudget}
 		}
-		concaveRightStrongWolfeNWAlphaE1MoveTo(xt, x, t, d)
+		concaveRightStrongWolfeNWAlphaE1TrialPoint(xt, x, t, d, &diffs.bounds)
 		current := concaveRightStrongWolfeNWAlphaE1LinePoint{step: t, value: ConcaveRight(xt[0])}
 		calls++
 		previous := low
@@ -658,8 +745,7 @@ func concaveRightStrongWolfeNWAlphaE1LineSearch(x *[1]float64, fx float64, d *[1
 			if calls+concaveRightStrongWolfeNWAlphaE1DerivativeCost > budget {
 				return concaveRightStrongWolfeNWAlphaE1LineResult{calls: calls, end: concaveRightStrongWolfeNWAlphaE1SearchOutOfBudget}
 			}
-			concaveRightStrongWolfeNWAlphaE1Derivative(xt, current.value, gt, diffs)
-			calls += concaveRightStrongWolfeNWAlphaE1DerivativeCost
+			calls += concaveRightStrongWolfeNWAlphaE1Derivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = concaveRightStrongWolfeNWAlphaE1Dot(gt, d), true
 			switch {
 			case !concaveRightStrongWolfeNWAlphaE1Finite(current.slope):
@@ -670,18 +756,22 @@ func concaveRightStrongWolfeNWAlphaE1LineSearch(x *[1]float64, fx float64, d *[1
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return concaveRightStrongWolfeNWAlphaE1LineResult{step: t, value: current.value, calls: calls, gradient: true, end: concaveRightStrongWolfeNWAlphaE1SearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = concaveRightStrongWolfeNWAlphaE1ZoomTrial(&low, &high)
-		} else {
-			t = concaveRightStrongWolfeNWAlphaE1ExpandTrial(&previous, &current)
+		} else if t = concaveRightStrongWolfeNWAlphaE1ExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return concaveRightStrongWolfeNWAlphaE1AcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return concaveRightStrongWolfeNWAlphaE1AcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return concaveRightStrongWolfeNWAlphaE1LineResult{calls: calls, rising: trend.contradicts(), end: concaveRightStrongWolfeNWAlphaE1SearchExhausted}
 }
@@ -768,6 +858,11 @@ func concaveRightStrongWolfeNWAlphaE1FaithfulStep(x, xt, d *[1]float64, t float6
 	return true
 }
 
+// concaveRightStrongWolfeNWAlphaE1StepCap: without bounds a step may be as long as the search wants.
+func concaveRightStrongWolfeNWAlphaE1StepCap(x, d *[1]float64, tiny float64, b *concaveRightStrongWolfeNWAlphaE1Box) float64 {
+	return math.Inf(1)
+}
+
 // concaveRightStrongWolfeNWAlphaE1TinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -792,10 +887,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func concaveRightStrongWolfeNWAlphaE1AcceptLow(x, d *[1]float64, low *concaveRightStrongWolfeNWAlphaE1LinePoint, lowGradient *[1]float64, calls int, xt, gt *[1]float64) concaveRightStrongWolfeNWAlphaE1LineResult {
-	concaveRightStrongWolfeNWAlphaE1MoveTo(xt, x, low.step, d)
+func concaveRightStrongWolfeNWAlphaE1AcceptLow(x, d *[1]float64, low *concaveRightStrongWolfeNWAlphaE1LinePoint, lowGradient *[1]float64, calls int, xt, gt *[1]float64, diffs *concaveRightStrongWolfeNWAlphaE1Differences) concaveRightStrongWolfeNWAlphaE1LineResult {
+	concaveRightStrongWolfeNWAlphaE1TrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return concaveRightStrongWolfeNWAlphaE1LineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: concaveRightStrongWolfeNWAlphaE1SearchAccepted}
+}
+
+// concaveRightStrongWolfeNWAlphaE1TrialPoint is x + t·d.
+func concaveRightStrongWolfeNWAlphaE1TrialPoint(out, x *[1]float64, t float64, d *[1]float64, b *concaveRightStrongWolfeNWAlphaE1Box) {
+	concaveRightStrongWolfeNWAlphaE1MoveTo(out, x, t, d)
 }
 
 // concaveRightStrongWolfeNWAlphaE1MoveTo sets out = x + t·d.
@@ -850,21 +950,6 @@ func concaveRightStrongWolfeNWAlphaE1ModelMinimizer(a, b *concaveRightStrongWolf
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, concaveRightStrongWolfeNWAlphaE1Finite(t)
-}
-
-// concaveRightStrongWolfeNWAlphaE1ClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func concaveRightStrongWolfeNWAlphaE1ClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // concaveRightStrongWolfeNWAlphaE1ExpandTrial picks a larger trial after current met sufficient decrease

@@ -88,6 +88,9 @@ func ConcaveRightStrongWolfeNWAlphaE3DefaultLimits() ConcaveRightStrongWolfeNWAl
 	}
 }
 
+// concaveRightStrongWolfeNWAlphaE3Box is empty: linesearch.toml sets no bounds on ConcaveRightStrongWolfeNWAlphaE3.
+type concaveRightStrongWolfeNWAlphaE3Box struct{}
+
 // ConcaveRightStrongWolfeNWAlphaE3 minimizes ConcaveRight from x0, as linesearch.toml specifies.
 //
 // Direction steepest: steepest descent, d = −∇f; no memory, linear convergence.
@@ -105,7 +108,7 @@ func ConcaveRightStrongWolfeNWAlphaE3(x0 float64) ConcaveRightStrongWolfeNWAlpha
 
 // ConcaveRightStrongWolfeNWAlphaE3WithLimits is ConcaveRightStrongWolfeNWAlphaE3 with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func ConcaveRightStrongWolfeNWAlphaE3WithLimits(x0 float64, limits ConcaveRightStrongWolfeNWAlphaE3Limits) ConcaveRightStrongWolfeNWAlphaE3Result {
-	out := concaveRightStrongWolfeNWAlphaE3Minimize([1]float64{x0}, limits)
+	out := concaveRightStrongWolfeNWAlphaE3Minimize([1]float64{x0}, limits, concaveRightStrongWolfeNWAlphaE3Box{})
 	return ConcaveRightStrongWolfeNWAlphaE3Result{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func concaveRightStrongWolfeNWAlphaE3Minimize(x0 [1]float64, lim ConcaveRightStrongWolfeNWAlphaE3Limits) concaveRightStrongWolfeNWAlphaE3Outcome {
-	out := concaveRightStrongWolfeNWAlphaE3Outcome{x: x0, status: ConcaveRightStrongWolfeNWAlphaE3OutOfEvaluations, gradient: math.NaN()}
+func concaveRightStrongWolfeNWAlphaE3Minimize(x0 [1]float64, lim ConcaveRightStrongWolfeNWAlphaE3Limits, bounds concaveRightStrongWolfeNWAlphaE3Box) concaveRightStrongWolfeNWAlphaE3Outcome {
+	x := x0
+	concaveRightStrongWolfeNWAlphaE3EnterBox(&x, &bounds)
+	out := concaveRightStrongWolfeNWAlphaE3Outcome{x: x, status: ConcaveRightStrongWolfeNWAlphaE3OutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := ConcaveRight(x[0])
 	out.f, out.evaluations = fx, 1
 	if !concaveRightStrongWolfeNWAlphaE3Finite(fx) || !concaveRightStrongWolfeNWAlphaE3FiniteVec(&x) {
 		out.status = ConcaveRightStrongWolfeNWAlphaE3NonFiniteStart
 		return out
 	}
-	var diffs concaveRightStrongWolfeNWAlphaE3Differences
+	diffs := concaveRightStrongWolfeNWAlphaE3Differences{bounds: bounds}
 	calls, ok := concaveRightStrongWolfeNWAlphaE3Calibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+concaveRightStrongWolfeNWAlphaE3DerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [1]float64
-	concaveRightStrongWolfeNWAlphaE3Derivative(&x, fx, &g, &diffs)
-	out.evaluations += concaveRightStrongWolfeNWAlphaE3DerivativeCost
+	out.evaluations += concaveRightStrongWolfeNWAlphaE3Derivative(&x, fx, &g, &diffs)
 
 	if !concaveRightStrongWolfeNWAlphaE3FiniteVec(&g) {
 		out.status = ConcaveRightStrongWolfeNWAlphaE3NonFiniteGradient
@@ -211,7 +214,7 @@ func concaveRightStrongWolfeNWAlphaE3Minimize(x0 [1]float64, lim ConcaveRightStr
 		case !confirmed:
 			concaveRightStrongWolfeNWAlphaE3GradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := concaveRightStrongWolfeNWAlphaE3GradientMeasure(&g, &e, &x, fx)
+		measure, floor := concaveRightStrongWolfeNWAlphaE3Stationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, concaveRightStrongWolfeNWAlphaE3Larger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func concaveRightStrongWolfeNWAlphaE3Minimize(x0 [1]float64, lim ConcaveRightStr
 			if rises >= 8 {
 				return best.ending(ConcaveRightStrongWolfeNWAlphaE3Diverged, out.iterations, out.evaluations)
 			}
+			concaveRightStrongWolfeNWAlphaE3CurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(ConcaveRightStrongWolfeNWAlphaE3OutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		concaveRightStrongWolfeNWAlphaE3SearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := concaveRightStrongWolfeNWAlphaE3Dot(&g, &d)
 		if !(now < 0) || !concaveRightStrongWolfeNWAlphaE3FiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			concaveRightStrongWolfeNWAlphaE3SearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = concaveRightStrongWolfeNWAlphaE3Dot(&g, &d)
 		}
 		first := float64(concaveRightStrongWolfeNWAlphaE3StepInitial)
@@ -267,7 +271,7 @@ func concaveRightStrongWolfeNWAlphaE3Minimize(x0 [1]float64, lim ConcaveRightStr
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := concaveRightStrongWolfeNWAlphaE3TinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := concaveRightStrongWolfeNWAlphaE3LineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := concaveRightStrongWolfeNWAlphaE3LineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case concaveRightStrongWolfeNWAlphaE3SearchOutOfBudget:
@@ -303,8 +307,7 @@ func concaveRightStrongWolfeNWAlphaE3Minimize(x0 [1]float64, lim ConcaveRightStr
 				}
 				return best.ending(ConcaveRightStrongWolfeNWAlphaE3OutOfEvaluations, out.iterations, out.evaluations)
 			}
-			concaveRightStrongWolfeNWAlphaE3Derivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += concaveRightStrongWolfeNWAlphaE3DerivativeCost
+			out.evaluations += concaveRightStrongWolfeNWAlphaE3Derivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		concaveRightStrongWolfeNWAlphaE3Difference(&s, &xt, &x)
@@ -345,6 +348,10 @@ func (o concaveRightStrongWolfeNWAlphaE3Outcome) ending(end ConcaveRightStrongWo
 	return o
 }
 
+// concaveRightStrongWolfeNWAlphaE3EnterBox: without bounds every start is inside.
+func concaveRightStrongWolfeNWAlphaE3EnterBox(x *[1]float64, b *concaveRightStrongWolfeNWAlphaE3Box) {
+}
+
 // concaveRightStrongWolfeNWAlphaE3Finite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +374,17 @@ func concaveRightStrongWolfeNWAlphaE3FiniteVec(x *[1]float64) bool {
 	return true
 }
 
-// concaveRightStrongWolfeNWAlphaE3Differences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// concaveRightStrongWolfeNWAlphaE3Differences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type concaveRightStrongWolfeNWAlphaE3Differences struct {
 	ratio     [1]float64
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see concaveRightStrongWolfeNWAlphaE3RoundingFloor)
+	bounds    concaveRightStrongWolfeNWAlphaE3Box
 }
 
 // concaveRightStrongWolfeNWAlphaE3Calibrate: an analytic gradient needs no intervals.
@@ -384,8 +393,9 @@ func concaveRightStrongWolfeNWAlphaE3Calibrate(x *[1]float64, fx float64, diffs 
 }
 
 // concaveRightStrongWolfeNWAlphaE3Derivative calls the user's gradient; it costs no objective calls.
-func concaveRightStrongWolfeNWAlphaE3Derivative(x *[1]float64, fx float64, g *[1]float64, diffs *concaveRightStrongWolfeNWAlphaE3Differences) {
+func concaveRightStrongWolfeNWAlphaE3Derivative(x *[1]float64, fx float64, g *[1]float64, diffs *concaveRightStrongWolfeNWAlphaE3Differences) int {
 	g[0] = ConcaveRightDeriv(x[0])
+	return 0
 }
 
 // concaveRightStrongWolfeNWAlphaE3Direction is steepest descent, d = −∇f(x): the direction of
@@ -401,8 +411,22 @@ func (s *concaveRightStrongWolfeNWAlphaE3Direction) compute(g, d *[1]float64) {
 
 func (s *concaveRightStrongWolfeNWAlphaE3Direction) update(step, change *[1]float64) {}
 
+// firstTrial is the scaled trial (concaveRightStrongWolfeNWAlphaE3ScaledTrial), grown at most by
+// 2^(concaveRightStrongWolfeNWAlphaE3StepTrials/2) over the previous step t. Steepest descent is the one
+// direction paired with backtracking that scales its first trial, and
+// backtracking can only shrink: after a step that nearly solved the
+// problem the slope collapses, the ratio can exceed the range its trials
+// halve through, and the search would end with no acceptable step. The
+// cap keeps at least half the trials below the previous step (a safeguard
+// of our own; cg, whose ratios can legitimately be that large on badly
+// scaled problems, always pairs with a Wolfe search, which expands and
+// zooms instead).
 func (s *concaveRightStrongWolfeNWAlphaE3Direction) firstTrial(t, slope, now float64) float64 {
-	return concaveRightStrongWolfeNWAlphaE3ScaledTrial(t, slope, now)
+	next := concaveRightStrongWolfeNWAlphaE3ScaledTrial(t, slope, now)
+	if reach := t * math.Ldexp(1, concaveRightStrongWolfeNWAlphaE3StepTrials/2); next > reach {
+		return reach
+	}
+	return next
 }
 
 // concaveRightStrongWolfeNWAlphaE3Negate sets out = −x.
@@ -471,13 +495,13 @@ func concaveRightStrongWolfeNWAlphaE3ConfirmGradient(x *[1]float64, fx float64, 
 		wide.ratio[i] *= 2
 	}
 	var doubled [1]float64
-	concaveRightStrongWolfeNWAlphaE3Derivative(x, fx, g, diffs)
-	concaveRightStrongWolfeNWAlphaE3Derivative(x, fx, &doubled, &wide)
+	calls += concaveRightStrongWolfeNWAlphaE3Derivative(x, fx, g, diffs)
+	calls += concaveRightStrongWolfeNWAlphaE3Derivative(x, fx, &doubled, &wide)
 	concaveRightStrongWolfeNWAlphaE3GradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * concaveRightStrongWolfeNWAlphaE3Abs(g[i]-doubled[i])
 	}
-	return calls + 2*concaveRightStrongWolfeNWAlphaE3DerivativeCost, true
+	return calls, true
 }
 
 // concaveRightStrongWolfeNWAlphaE3GradientError: the analytic gradient is taken as exact; its error is
@@ -519,18 +543,60 @@ func concaveRightStrongWolfeNWAlphaE3DiagonalCurvature(x, g *[1]float64, diffs *
 	var moved [1]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := concaveRightStrongWolfeNWAlphaE3ProbeStep(xi, concaveRightStrongWolfeNWAlphaE3SquareRoot(concaveRightStrongWolfeNWAlphaE3UnitRoundoff)*concaveRightStrongWolfeNWAlphaE3Larger(1, concaveRightStrongWolfeNWAlphaE3Abs(xi)))
-		probe[i] = up
-		moved[0] = ConcaveRightDeriv(probe[0])
-		h[i] = concaveRightStrongWolfeNWAlphaE3Abs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := concaveRightStrongWolfeNWAlphaE3CoordinateRange(i, diffs)
+		up, delta := concaveRightStrongWolfeNWAlphaE3ProbeStep(xi, concaveRightStrongWolfeNWAlphaE3OneSide(xi, concaveRightStrongWolfeNWAlphaE3SquareRoot(concaveRightStrongWolfeNWAlphaE3UnitRoundoff)*concaveRightStrongWolfeNWAlphaE3Larger(1, concaveRightStrongWolfeNWAlphaE3Abs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			moved[0] = ConcaveRightDeriv(probe[0])
+			h[i] = concaveRightStrongWolfeNWAlphaE3Abs(moved[i]-g[i]) / concaveRightStrongWolfeNWAlphaE3Abs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// concaveRightStrongWolfeNWAlphaE3ProbeStep returns x_i moved by h, and the step actually representable.
-func concaveRightStrongWolfeNWAlphaE3ProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// concaveRightStrongWolfeNWAlphaE3CoordinateRange: without bounds any probe is allowed.
+func concaveRightStrongWolfeNWAlphaE3CoordinateRange(i int, diffs *concaveRightStrongWolfeNWAlphaE3Differences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// concaveRightStrongWolfeNWAlphaE3ProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func concaveRightStrongWolfeNWAlphaE3ProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := concaveRightStrongWolfeNWAlphaE3ClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// concaveRightStrongWolfeNWAlphaE3ClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func concaveRightStrongWolfeNWAlphaE3ClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// concaveRightStrongWolfeNWAlphaE3OneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func concaveRightStrongWolfeNWAlphaE3OneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // concaveRightStrongWolfeNWAlphaE3SquareRoot returns √v.
@@ -546,6 +612,11 @@ func concaveRightStrongWolfeNWAlphaE3Larger(a, b float64) float64 {
 		return a
 	}
 	return b
+}
+
+// concaveRightStrongWolfeNWAlphaE3Stationarity measures the gradient itself.
+func concaveRightStrongWolfeNWAlphaE3Stationarity(g, e, x *[1]float64, fx float64, b *concaveRightStrongWolfeNWAlphaE3Box) (measure, floor float64) {
+	return concaveRightStrongWolfeNWAlphaE3GradientMeasure(g, e, x, fx)
 }
 
 // concaveRightStrongWolfeNWAlphaE3GradientMeasure is the scale-free measure
@@ -579,6 +650,15 @@ func concaveRightStrongWolfeNWAlphaE3StepWithin(s, x *[1]float64, tol float64) b
 		}
 	}
 	return true
+}
+
+// concaveRightStrongWolfeNWAlphaE3CurvaturePair: without bounds the pair is used as it is.
+func concaveRightStrongWolfeNWAlphaE3CurvaturePair(s, y, x *[1]float64, b *concaveRightStrongWolfeNWAlphaE3Box) {
+}
+
+// concaveRightStrongWolfeNWAlphaE3SearchDirection is the direction's own.
+func concaveRightStrongWolfeNWAlphaE3SearchDirection(dir *concaveRightStrongWolfeNWAlphaE3Direction, x, g, d *[1]float64, b *concaveRightStrongWolfeNWAlphaE3Box) {
+	dir.compute(g, d)
 }
 
 // concaveRightStrongWolfeNWAlphaE3Dot returns aᵀb.
@@ -617,7 +697,10 @@ func concaveRightStrongWolfeNWAlphaE3TinyStep(x, d *[1]float64, tol float64) flo
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (concaveRightStrongWolfeNWAlphaE3StepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -626,13 +709,17 @@ func concaveRightStrongWolfeNWAlphaE3TinyStep(x, d *[1]float64, tol float64) flo
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func concaveRightStrongWolfeNWAlphaE3LineSearch(x *[1]float64, fx float64, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *concaveRightStrongWolfeNWAlphaE3Differences) concaveRightStrongWolfeNWAlphaE3LineResult {
+func concaveRightStrongWolfeNWAlphaE3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *concaveRightStrongWolfeNWAlphaE3Differences) concaveRightStrongWolfeNWAlphaE3LineResult {
 	low := concaveRightStrongWolfeNWAlphaE3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveRightStrongWolfeNWAlphaE3LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                                // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend concaveRightStrongWolfeNWAlphaE3RiseTrend // of the trials failing sufficient decrease
+	var trend concaveRightStrongWolfeNWAlphaE3RiseTrend                         // of the trials failing sufficient decrease
+	limit := concaveRightStrongWolfeNWAlphaE3StepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < concaveRightStrongWolfeNWAlphaE3StepTrials; trial++ {
 		if bracketed && concaveRightStrongWolfeNWAlphaE3Abs(high.step-low.step) <= tiny {
@@ -642,12 +729,12 @@ func concaveRightStrongWolfeNWAlphaE3LineSearch(x *[1]float64, fx float64, d *[1
 			if low.step == 0 {
 				return concaveRightStrongWolfeNWAlphaE3LineResult{calls: calls, rising: trend.contradicts(), end: concaveRightStrongWolfeNWAlphaE3TinyOrExhausted(concaveRightStrongWolfeNWAlphaE3Finite(high.value))}
 			}
-			return concaveRightStrongWolfeNWAlphaE3AcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return concaveRightStrongWolfeNWAlphaE3AcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return concaveRightStrongWolfeNWAlphaE3LineResult{calls: calls, end: concaveRightStrongWolfeNWAlphaE3SearchOutOfBudget}
 		}
-		concaveRightStrongWolfeNWAlphaE3MoveTo(xt, x, t, d)
+		concaveRightStrongWolfeNWAlphaE3TrialPoint(xt, x, t, d, &diffs.bounds)
 		current := concaveRightStrongWolfeNWAlphaE3LinePoint{step: t, value: ConcaveRight(xt[0])}
 		calls++
 		previous := low
@@ -658,8 +745,7 @@ func concaveRightStrongWolfeNWAlphaE3LineSearch(x *[1]float64, fx float64, d *[1
 			if calls+concaveRightStrongWolfeNWAlphaE3DerivativeCost > budget {
 				return concaveRightStrongWolfeNWAlphaE3LineResult{calls: calls, end: concaveRightStrongWolfeNWAlphaE3SearchOutOfBudget}
 			}
-			concaveRightStrongWolfeNWAlphaE3Derivative(xt, current.value, gt, diffs)
-			calls += concaveRightStrongWolfeNWAlphaE3DerivativeCost
+			calls += concaveRightStrongWolfeNWAlphaE3Derivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = concaveRightStrongWolfeNWAlphaE3Dot(gt, d), true
 			switch {
 			case !concaveRightStrongWolfeNWAlphaE3Finite(current.slope):
@@ -670,18 +756,22 @@ func concaveRightStrongWolfeNWAlphaE3LineSearch(x *[1]float64, fx float64, d *[1
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return concaveRightStrongWolfeNWAlphaE3LineResult{step: t, value: current.value, calls: calls, gradient: true, end: concaveRightStrongWolfeNWAlphaE3SearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = concaveRightStrongWolfeNWAlphaE3ZoomTrial(&low, &high)
-		} else {
-			t = concaveRightStrongWolfeNWAlphaE3ExpandTrial(&previous, &current)
+		} else if t = concaveRightStrongWolfeNWAlphaE3ExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return concaveRightStrongWolfeNWAlphaE3AcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return concaveRightStrongWolfeNWAlphaE3AcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return concaveRightStrongWolfeNWAlphaE3LineResult{calls: calls, rising: trend.contradicts(), end: concaveRightStrongWolfeNWAlphaE3SearchExhausted}
 }
@@ -768,6 +858,11 @@ func concaveRightStrongWolfeNWAlphaE3FaithfulStep(x, xt, d *[1]float64, t float6
 	return true
 }
 
+// concaveRightStrongWolfeNWAlphaE3StepCap: without bounds a step may be as long as the search wants.
+func concaveRightStrongWolfeNWAlphaE3StepCap(x, d *[1]float64, tiny float64, b *concaveRightStrongWolfeNWAlphaE3Box) float64 {
+	return math.Inf(1)
+}
+
 // concaveRightStrongWolfeNWAlphaE3TinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -792,10 +887,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func concaveRightStrongWolfeNWAlphaE3AcceptLow(x, d *[1]float64, low *concaveRightStrongWolfeNWAlphaE3LinePoint, lowGradient *[1]float64, calls int, xt, gt *[1]float64) concaveRightStrongWolfeNWAlphaE3LineResult {
-	concaveRightStrongWolfeNWAlphaE3MoveTo(xt, x, low.step, d)
+func concaveRightStrongWolfeNWAlphaE3AcceptLow(x, d *[1]float64, low *concaveRightStrongWolfeNWAlphaE3LinePoint, lowGradient *[1]float64, calls int, xt, gt *[1]float64, diffs *concaveRightStrongWolfeNWAlphaE3Differences) concaveRightStrongWolfeNWAlphaE3LineResult {
+	concaveRightStrongWolfeNWAlphaE3TrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return concaveRightStrongWolfeNWAlphaE3LineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: concaveRightStrongWolfeNWAlphaE3SearchAccepted}
+}
+
+// concaveRightStrongWolfeNWAlphaE3TrialPoint is x + t·d.
+func concaveRightStrongWolfeNWAlphaE3TrialPoint(out, x *[1]float64, t float64, d *[1]float64, b *concaveRightStrongWolfeNWAlphaE3Box) {
+	concaveRightStrongWolfeNWAlphaE3MoveTo(out, x, t, d)
 }
 
 // concaveRightStrongWolfeNWAlphaE3MoveTo sets out = x + t·d.
@@ -850,21 +950,6 @@ func concaveRightStrongWolfeNWAlphaE3ModelMinimizer(a, b *concaveRightStrongWolf
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, concaveRightStrongWolfeNWAlphaE3Finite(t)
-}
-
-// concaveRightStrongWolfeNWAlphaE3ClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func concaveRightStrongWolfeNWAlphaE3ClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // concaveRightStrongWolfeNWAlphaE3ExpandTrial picks a larger trial after current met sufficient decrease

@@ -88,6 +88,9 @@ func ConcaveRightWolfeMTAlphaEm1DefaultLimits() ConcaveRightWolfeMTAlphaEm1Limit
 	}
 }
 
+// concaveRightWolfeMTAlphaEm1Box is empty: linesearch.toml sets no bounds on ConcaveRightWolfeMTAlphaEm1.
+type concaveRightWolfeMTAlphaEm1Box struct{}
+
 // ConcaveRightWolfeMTAlphaEm1 minimizes ConcaveRight from x0, as linesearch.toml specifies.
 //
 // Direction steepest: steepest descent, d = −∇f; no memory, linear convergence.
@@ -105,7 +108,7 @@ func ConcaveRightWolfeMTAlphaEm1(x0 float64) ConcaveRightWolfeMTAlphaEm1Result {
 
 // ConcaveRightWolfeMTAlphaEm1WithLimits is ConcaveRightWolfeMTAlphaEm1 with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func ConcaveRightWolfeMTAlphaEm1WithLimits(x0 float64, limits ConcaveRightWolfeMTAlphaEm1Limits) ConcaveRightWolfeMTAlphaEm1Result {
-	out := concaveRightWolfeMTAlphaEm1Minimize([1]float64{x0}, limits)
+	out := concaveRightWolfeMTAlphaEm1Minimize([1]float64{x0}, limits, concaveRightWolfeMTAlphaEm1Box{})
 	return ConcaveRightWolfeMTAlphaEm1Result{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func concaveRightWolfeMTAlphaEm1Minimize(x0 [1]float64, lim ConcaveRightWolfeMTAlphaEm1Limits) concaveRightWolfeMTAlphaEm1Outcome {
-	out := concaveRightWolfeMTAlphaEm1Outcome{x: x0, status: ConcaveRightWolfeMTAlphaEm1OutOfEvaluations, gradient: math.NaN()}
+func concaveRightWolfeMTAlphaEm1Minimize(x0 [1]float64, lim ConcaveRightWolfeMTAlphaEm1Limits, bounds concaveRightWolfeMTAlphaEm1Box) concaveRightWolfeMTAlphaEm1Outcome {
+	x := x0
+	concaveRightWolfeMTAlphaEm1EnterBox(&x, &bounds)
+	out := concaveRightWolfeMTAlphaEm1Outcome{x: x, status: ConcaveRightWolfeMTAlphaEm1OutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := ConcaveRight(x[0])
 	out.f, out.evaluations = fx, 1
 	if !concaveRightWolfeMTAlphaEm1Finite(fx) || !concaveRightWolfeMTAlphaEm1FiniteVec(&x) {
 		out.status = ConcaveRightWolfeMTAlphaEm1NonFiniteStart
 		return out
 	}
-	var diffs concaveRightWolfeMTAlphaEm1Differences
+	diffs := concaveRightWolfeMTAlphaEm1Differences{bounds: bounds}
 	calls, ok := concaveRightWolfeMTAlphaEm1Calibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+concaveRightWolfeMTAlphaEm1DerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [1]float64
-	concaveRightWolfeMTAlphaEm1Derivative(&x, fx, &g, &diffs)
-	out.evaluations += concaveRightWolfeMTAlphaEm1DerivativeCost
+	out.evaluations += concaveRightWolfeMTAlphaEm1Derivative(&x, fx, &g, &diffs)
 
 	if !concaveRightWolfeMTAlphaEm1FiniteVec(&g) {
 		out.status = ConcaveRightWolfeMTAlphaEm1NonFiniteGradient
@@ -211,7 +214,7 @@ func concaveRightWolfeMTAlphaEm1Minimize(x0 [1]float64, lim ConcaveRightWolfeMTA
 		case !confirmed:
 			concaveRightWolfeMTAlphaEm1GradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := concaveRightWolfeMTAlphaEm1GradientMeasure(&g, &e, &x, fx)
+		measure, floor := concaveRightWolfeMTAlphaEm1Stationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, concaveRightWolfeMTAlphaEm1Larger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func concaveRightWolfeMTAlphaEm1Minimize(x0 [1]float64, lim ConcaveRightWolfeMTA
 			if rises >= 8 {
 				return best.ending(ConcaveRightWolfeMTAlphaEm1Diverged, out.iterations, out.evaluations)
 			}
+			concaveRightWolfeMTAlphaEm1CurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(ConcaveRightWolfeMTAlphaEm1OutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		concaveRightWolfeMTAlphaEm1SearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := concaveRightWolfeMTAlphaEm1Dot(&g, &d)
 		if !(now < 0) || !concaveRightWolfeMTAlphaEm1FiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			concaveRightWolfeMTAlphaEm1SearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = concaveRightWolfeMTAlphaEm1Dot(&g, &d)
 		}
 		first := float64(concaveRightWolfeMTAlphaEm1StepInitial)
@@ -267,7 +271,7 @@ func concaveRightWolfeMTAlphaEm1Minimize(x0 [1]float64, lim ConcaveRightWolfeMTA
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := concaveRightWolfeMTAlphaEm1TinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := concaveRightWolfeMTAlphaEm1LineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := concaveRightWolfeMTAlphaEm1LineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case concaveRightWolfeMTAlphaEm1SearchOutOfBudget:
@@ -303,8 +307,7 @@ func concaveRightWolfeMTAlphaEm1Minimize(x0 [1]float64, lim ConcaveRightWolfeMTA
 				}
 				return best.ending(ConcaveRightWolfeMTAlphaEm1OutOfEvaluations, out.iterations, out.evaluations)
 			}
-			concaveRightWolfeMTAlphaEm1Derivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += concaveRightWolfeMTAlphaEm1DerivativeCost
+			out.evaluations += concaveRightWolfeMTAlphaEm1Derivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		concaveRightWolfeMTAlphaEm1Difference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o concaveRightWolfeMTAlphaEm1Outcome) ending(end ConcaveRightWolfeMTAlphaE
 	return o
 }
 
+// concaveRightWolfeMTAlphaEm1EnterBox: without bounds every start is inside.
+func concaveRightWolfeMTAlphaEm1EnterBox(x *[1]float64, b *concaveRightWolfeMTAlphaEm1Box) {}
+
 // concaveRightWolfeMTAlphaEm1Finite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func concaveRightWolfeMTAlphaEm1FiniteVec(x *[1]float64) bool {
 	return true
 }
 
-// concaveRightWolfeMTAlphaEm1Differences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// concaveRightWolfeMTAlphaEm1Differences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type concaveRightWolfeMTAlphaEm1Differences struct {
 	ratio     [1]float64
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see concaveRightWolfeMTAlphaEm1RoundingFloor)
+	bounds    concaveRightWolfeMTAlphaEm1Box
 }
 
 // concaveRightWolfeMTAlphaEm1Calibrate: an analytic gradient needs no intervals.
@@ -384,8 +392,9 @@ func concaveRightWolfeMTAlphaEm1Calibrate(x *[1]float64, fx float64, diffs *conc
 }
 
 // concaveRightWolfeMTAlphaEm1Derivative calls the user's gradient; it costs no objective calls.
-func concaveRightWolfeMTAlphaEm1Derivative(x *[1]float64, fx float64, g *[1]float64, diffs *concaveRightWolfeMTAlphaEm1Differences) {
+func concaveRightWolfeMTAlphaEm1Derivative(x *[1]float64, fx float64, g *[1]float64, diffs *concaveRightWolfeMTAlphaEm1Differences) int {
 	g[0] = ConcaveRightDeriv(x[0])
+	return 0
 }
 
 // concaveRightWolfeMTAlphaEm1Direction is steepest descent, d = −∇f(x): the direction of
@@ -401,8 +410,22 @@ func (s *concaveRightWolfeMTAlphaEm1Direction) compute(g, d *[1]float64) {
 
 func (s *concaveRightWolfeMTAlphaEm1Direction) update(step, change *[1]float64) {}
 
+// firstTrial is the scaled trial (concaveRightWolfeMTAlphaEm1ScaledTrial), grown at most by
+// 2^(concaveRightWolfeMTAlphaEm1StepTrials/2) over the previous step t. Steepest descent is the one
+// direction paired with backtracking that scales its first trial, and
+// backtracking can only shrink: after a step that nearly solved the
+// problem the slope collapses, the ratio can exceed the range its trials
+// halve through, and the search would end with no acceptable step. The
+// cap keeps at least half the trials below the previous step (a safeguard
+// of our own; cg, whose ratios can legitimately be that large on badly
+// scaled problems, always pairs with a Wolfe search, which expands and
+// zooms instead).
 func (s *concaveRightWolfeMTAlphaEm1Direction) firstTrial(t, slope, now float64) float64 {
-	return concaveRightWolfeMTAlphaEm1ScaledTrial(t, slope, now)
+	next := concaveRightWolfeMTAlphaEm1ScaledTrial(t, slope, now)
+	if reach := t * math.Ldexp(1, concaveRightWolfeMTAlphaEm1StepTrials/2); next > reach {
+		return reach
+	}
+	return next
 }
 
 // concaveRightWolfeMTAlphaEm1Negate sets out = −x.
@@ -471,13 +494,13 @@ func concaveRightWolfeMTAlphaEm1ConfirmGradient(x *[1]float64, fx float64, g, e 
 		wide.ratio[i] *= 2
 	}
 	var doubled [1]float64
-	concaveRightWolfeMTAlphaEm1Derivative(x, fx, g, diffs)
-	concaveRightWolfeMTAlphaEm1Derivative(x, fx, &doubled, &wide)
+	calls += concaveRightWolfeMTAlphaEm1Derivative(x, fx, g, diffs)
+	calls += concaveRightWolfeMTAlphaEm1Derivative(x, fx, &doubled, &wide)
 	concaveRightWolfeMTAlphaEm1GradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * concaveRightWolfeMTAlphaEm1Abs(g[i]-doubled[i])
 	}
-	return calls + 2*concaveRightWolfeMTAlphaEm1DerivativeCost, true
+	return calls, true
 }
 
 // concaveRightWolfeMTAlphaEm1GradientError: the analytic gradient is taken as exact; its error is
@@ -519,18 +542,60 @@ func concaveRightWolfeMTAlphaEm1DiagonalCurvature(x, g *[1]float64, diffs *conca
 	var moved [1]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := concaveRightWolfeMTAlphaEm1ProbeStep(xi, concaveRightWolfeMTAlphaEm1SquareRoot(concaveRightWolfeMTAlphaEm1UnitRoundoff)*concaveRightWolfeMTAlphaEm1Larger(1, concaveRightWolfeMTAlphaEm1Abs(xi)))
-		probe[i] = up
-		moved[0] = ConcaveRightDeriv(probe[0])
-		h[i] = concaveRightWolfeMTAlphaEm1Abs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := concaveRightWolfeMTAlphaEm1CoordinateRange(i, diffs)
+		up, delta := concaveRightWolfeMTAlphaEm1ProbeStep(xi, concaveRightWolfeMTAlphaEm1OneSide(xi, concaveRightWolfeMTAlphaEm1SquareRoot(concaveRightWolfeMTAlphaEm1UnitRoundoff)*concaveRightWolfeMTAlphaEm1Larger(1, concaveRightWolfeMTAlphaEm1Abs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			moved[0] = ConcaveRightDeriv(probe[0])
+			h[i] = concaveRightWolfeMTAlphaEm1Abs(moved[i]-g[i]) / concaveRightWolfeMTAlphaEm1Abs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// concaveRightWolfeMTAlphaEm1ProbeStep returns x_i moved by h, and the step actually representable.
-func concaveRightWolfeMTAlphaEm1ProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// concaveRightWolfeMTAlphaEm1CoordinateRange: without bounds any probe is allowed.
+func concaveRightWolfeMTAlphaEm1CoordinateRange(i int, diffs *concaveRightWolfeMTAlphaEm1Differences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// concaveRightWolfeMTAlphaEm1ProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func concaveRightWolfeMTAlphaEm1ProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := concaveRightWolfeMTAlphaEm1ClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// concaveRightWolfeMTAlphaEm1ClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func concaveRightWolfeMTAlphaEm1ClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// concaveRightWolfeMTAlphaEm1OneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func concaveRightWolfeMTAlphaEm1OneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // concaveRightWolfeMTAlphaEm1SquareRoot returns √v.
@@ -546,6 +611,11 @@ func concaveRightWolfeMTAlphaEm1Larger(a, b float64) float64 {
 		return a
 	}
 	return b
+}
+
+// concaveRightWolfeMTAlphaEm1Stationarity measures the gradient itself.
+func concaveRightWolfeMTAlphaEm1Stationarity(g, e, x *[1]float64, fx float64, b *concaveRightWolfeMTAlphaEm1Box) (measure, floor float64) {
+	return concaveRightWolfeMTAlphaEm1GradientMeasure(g, e, x, fx)
 }
 
 // concaveRightWolfeMTAlphaEm1GradientMeasure is the scale-free measure
@@ -579,6 +649,15 @@ func concaveRightWolfeMTAlphaEm1StepWithin(s, x *[1]float64, tol float64) bool {
 		}
 	}
 	return true
+}
+
+// concaveRightWolfeMTAlphaEm1CurvaturePair: without bounds the pair is used as it is.
+func concaveRightWolfeMTAlphaEm1CurvaturePair(s, y, x *[1]float64, b *concaveRightWolfeMTAlphaEm1Box) {
+}
+
+// concaveRightWolfeMTAlphaEm1SearchDirection is the direction's own.
+func concaveRightWolfeMTAlphaEm1SearchDirection(dir *concaveRightWolfeMTAlphaEm1Direction, x, g, d *[1]float64, b *concaveRightWolfeMTAlphaEm1Box) {
+	dir.compute(g, d)
 }
 
 // concaveRightWolfeMTAlphaEm1Dot returns aᵀb.
@@ -617,7 +696,10 @@ func concaveRightWolfeMTAlphaEm1TinyStep(x, d *[1]float64, tol float64) float64 
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (concaveRightWolfeMTAlphaEm1StepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -626,13 +708,17 @@ func concaveRightWolfeMTAlphaEm1TinyStep(x, d *[1]float64, tol float64) float64 
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func concaveRightWolfeMTAlphaEm1LineSearch(x *[1]float64, fx float64, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *concaveRightWolfeMTAlphaEm1Differences) concaveRightWolfeMTAlphaEm1LineResult {
+func concaveRightWolfeMTAlphaEm1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *concaveRightWolfeMTAlphaEm1Differences) concaveRightWolfeMTAlphaEm1LineResult {
 	low := concaveRightWolfeMTAlphaEm1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveRightWolfeMTAlphaEm1LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                           // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend concaveRightWolfeMTAlphaEm1RiseTrend // of the trials failing sufficient decrease
+	var trend concaveRightWolfeMTAlphaEm1RiseTrend                         // of the trials failing sufficient decrease
+	limit := concaveRightWolfeMTAlphaEm1StepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < concaveRightWolfeMTAlphaEm1StepTrials; trial++ {
 		if bracketed && concaveRightWolfeMTAlphaEm1Abs(high.step-low.step) <= tiny {
@@ -642,12 +728,12 @@ func concaveRightWolfeMTAlphaEm1LineSearch(x *[1]float64, fx float64, d *[1]floa
 			if low.step == 0 {
 				return concaveRightWolfeMTAlphaEm1LineResult{calls: calls, rising: trend.contradicts(), end: concaveRightWolfeMTAlphaEm1TinyOrExhausted(concaveRightWolfeMTAlphaEm1Finite(high.value))}
 			}
-			return concaveRightWolfeMTAlphaEm1AcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return concaveRightWolfeMTAlphaEm1AcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return concaveRightWolfeMTAlphaEm1LineResult{calls: calls, end: concaveRightWolfeMTAlphaEm1SearchOutOfBudget}
 		}
-		concaveRightWolfeMTAlphaEm1MoveTo(xt, x, t, d)
+		concaveRightWolfeMTAlphaEm1TrialPoint(xt, x, t, d, &diffs.bounds)
 		current := concaveRightWolfeMTAlphaEm1LinePoint{step: t, value: ConcaveRight(xt[0])}
 		calls++
 		previous := low
@@ -658,8 +744,7 @@ func concaveRightWolfeMTAlphaEm1LineSearch(x *[1]float64, fx float64, d *[1]floa
 			if calls+concaveRightWolfeMTAlphaEm1DerivativeCost > budget {
 				return concaveRightWolfeMTAlphaEm1LineResult{calls: calls, end: concaveRightWolfeMTAlphaEm1SearchOutOfBudget}
 			}
-			concaveRightWolfeMTAlphaEm1Derivative(xt, current.value, gt, diffs)
-			calls += concaveRightWolfeMTAlphaEm1DerivativeCost
+			calls += concaveRightWolfeMTAlphaEm1Derivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = concaveRightWolfeMTAlphaEm1Dot(gt, d), true
 			switch {
 			case !concaveRightWolfeMTAlphaEm1Finite(current.slope):
@@ -670,18 +755,22 @@ func concaveRightWolfeMTAlphaEm1LineSearch(x *[1]float64, fx float64, d *[1]floa
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return concaveRightWolfeMTAlphaEm1LineResult{step: t, value: current.value, calls: calls, gradient: true, end: concaveRightWolfeMTAlphaEm1SearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = concaveRightWolfeMTAlphaEm1ZoomTrial(&low, &high)
-		} else {
-			t = concaveRightWolfeMTAlphaEm1ExpandTrial(&previous, &current)
+		} else if t = concaveRightWolfeMTAlphaEm1ExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return concaveRightWolfeMTAlphaEm1AcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return concaveRightWolfeMTAlphaEm1AcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return concaveRightWolfeMTAlphaEm1LineResult{calls: calls, rising: trend.contradicts(), end: concaveRightWolfeMTAlphaEm1SearchExhausted}
 }
@@ -768,6 +857,11 @@ func concaveRightWolfeMTAlphaEm1FaithfulStep(x, xt, d *[1]float64, t float64) bo
 	return true
 }
 
+// concaveRightWolfeMTAlphaEm1StepCap: without bounds a step may be as long as the search wants.
+func concaveRightWolfeMTAlphaEm1StepCap(x, d *[1]float64, tiny float64, b *concaveRightWolfeMTAlphaEm1Box) float64 {
+	return math.Inf(1)
+}
+
 // concaveRightWolfeMTAlphaEm1TinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -792,10 +886,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func concaveRightWolfeMTAlphaEm1AcceptLow(x, d *[1]float64, low *concaveRightWolfeMTAlphaEm1LinePoint, lowGradient *[1]float64, calls int, xt, gt *[1]float64) concaveRightWolfeMTAlphaEm1LineResult {
-	concaveRightWolfeMTAlphaEm1MoveTo(xt, x, low.step, d)
+func concaveRightWolfeMTAlphaEm1AcceptLow(x, d *[1]float64, low *concaveRightWolfeMTAlphaEm1LinePoint, lowGradient *[1]float64, calls int, xt, gt *[1]float64, diffs *concaveRightWolfeMTAlphaEm1Differences) concaveRightWolfeMTAlphaEm1LineResult {
+	concaveRightWolfeMTAlphaEm1TrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return concaveRightWolfeMTAlphaEm1LineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: concaveRightWolfeMTAlphaEm1SearchAccepted}
+}
+
+// concaveRightWolfeMTAlphaEm1TrialPoint is x + t·d.
+func concaveRightWolfeMTAlphaEm1TrialPoint(out, x *[1]float64, t float64, d *[1]float64, b *concaveRightWolfeMTAlphaEm1Box) {
+	concaveRightWolfeMTAlphaEm1MoveTo(out, x, t, d)
 }
 
 // concaveRightWolfeMTAlphaEm1MoveTo sets out = x + t·d.
@@ -850,21 +949,6 @@ func concaveRightWolfeMTAlphaEm1ModelMinimizer(a, b *concaveRightWolfeMTAlphaEm1
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, concaveRightWolfeMTAlphaEm1Finite(t)
-}
-
-// concaveRightWolfeMTAlphaEm1ClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func concaveRightWolfeMTAlphaEm1ClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // concaveRightWolfeMTAlphaEm1ExpandTrial picks a larger trial after current met sufficient decrease

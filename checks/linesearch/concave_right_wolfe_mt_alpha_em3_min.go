@@ -88,6 +88,9 @@ func ConcaveRightWolfeMTAlphaEm3DefaultLimits() ConcaveRightWolfeMTAlphaEm3Limit
 	}
 }
 
+// concaveRightWolfeMTAlphaEm3Box is empty: linesearch.toml sets no bounds on ConcaveRightWolfeMTAlphaEm3.
+type concaveRightWolfeMTAlphaEm3Box struct{}
+
 // ConcaveRightWolfeMTAlphaEm3 minimizes ConcaveRight from x0, as linesearch.toml specifies.
 //
 // Direction steepest: steepest descent, d = −∇f; no memory, linear convergence.
@@ -105,7 +108,7 @@ func ConcaveRightWolfeMTAlphaEm3(x0 float64) ConcaveRightWolfeMTAlphaEm3Result {
 
 // ConcaveRightWolfeMTAlphaEm3WithLimits is ConcaveRightWolfeMTAlphaEm3 with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func ConcaveRightWolfeMTAlphaEm3WithLimits(x0 float64, limits ConcaveRightWolfeMTAlphaEm3Limits) ConcaveRightWolfeMTAlphaEm3Result {
-	out := concaveRightWolfeMTAlphaEm3Minimize([1]float64{x0}, limits)
+	out := concaveRightWolfeMTAlphaEm3Minimize([1]float64{x0}, limits, concaveRightWolfeMTAlphaEm3Box{})
 	return ConcaveRightWolfeMTAlphaEm3Result{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func concaveRightWolfeMTAlphaEm3Minimize(x0 [1]float64, lim ConcaveRightWolfeMTAlphaEm3Limits) concaveRightWolfeMTAlphaEm3Outcome {
-	out := concaveRightWolfeMTAlphaEm3Outcome{x: x0, status: ConcaveRightWolfeMTAlphaEm3OutOfEvaluations, gradient: math.NaN()}
+func concaveRightWolfeMTAlphaEm3Minimize(x0 [1]float64, lim ConcaveRightWolfeMTAlphaEm3Limits, bounds concaveRightWolfeMTAlphaEm3Box) concaveRightWolfeMTAlphaEm3Outcome {
+	x := x0
+	concaveRightWolfeMTAlphaEm3EnterBox(&x, &bounds)
+	out := concaveRightWolfeMTAlphaEm3Outcome{x: x, status: ConcaveRightWolfeMTAlphaEm3OutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := ConcaveRight(x[0])
 	out.f, out.evaluations = fx, 1
 	if !concaveRightWolfeMTAlphaEm3Finite(fx) || !concaveRightWolfeMTAlphaEm3FiniteVec(&x) {
 		out.status = ConcaveRightWolfeMTAlphaEm3NonFiniteStart
 		return out
 	}
-	var diffs concaveRightWolfeMTAlphaEm3Differences
+	diffs := concaveRightWolfeMTAlphaEm3Differences{bounds: bounds}
 	calls, ok := concaveRightWolfeMTAlphaEm3Calibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+concaveRightWolfeMTAlphaEm3DerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [1]float64
-	concaveRightWolfeMTAlphaEm3Derivative(&x, fx, &g, &diffs)
-	out.evaluations += concaveRightWolfeMTAlphaEm3DerivativeCost
+	out.evaluations += concaveRightWolfeMTAlphaEm3Derivative(&x, fx, &g, &diffs)
 
 	if !concaveRightWolfeMTAlphaEm3FiniteVec(&g) {
 		out.status = ConcaveRightWolfeMTAlphaEm3NonFiniteGradient
@@ -211,7 +214,7 @@ func concaveRightWolfeMTAlphaEm3Minimize(x0 [1]float64, lim ConcaveRightWolfeMTA
 		case !confirmed:
 			concaveRightWolfeMTAlphaEm3GradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := concaveRightWolfeMTAlphaEm3GradientMeasure(&g, &e, &x, fx)
+		measure, floor := concaveRightWolfeMTAlphaEm3Stationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, concaveRightWolfeMTAlphaEm3Larger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func concaveRightWolfeMTAlphaEm3Minimize(x0 [1]float64, lim ConcaveRightWolfeMTA
 			if rises >= 8 {
 				return best.ending(ConcaveRightWolfeMTAlphaEm3Diverged, out.iterations, out.evaluations)
 			}
+			concaveRightWolfeMTAlphaEm3CurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(ConcaveRightWolfeMTAlphaEm3OutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		concaveRightWolfeMTAlphaEm3SearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := concaveRightWolfeMTAlphaEm3Dot(&g, &d)
 		if !(now < 0) || !concaveRightWolfeMTAlphaEm3FiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			concaveRightWolfeMTAlphaEm3SearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = concaveRightWolfeMTAlphaEm3Dot(&g, &d)
 		}
 		first := float64(concaveRightWolfeMTAlphaEm3StepInitial)
@@ -267,7 +271,7 @@ func concaveRightWolfeMTAlphaEm3Minimize(x0 [1]float64, lim ConcaveRightWolfeMTA
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := concaveRightWolfeMTAlphaEm3TinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := concaveRightWolfeMTAlphaEm3LineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := concaveRightWolfeMTAlphaEm3LineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case concaveRightWolfeMTAlphaEm3SearchOutOfBudget:
@@ -303,8 +307,7 @@ func concaveRightWolfeMTAlphaEm3Minimize(x0 [1]float64, lim ConcaveRightWolfeMTA
 				}
 				return best.ending(ConcaveRightWolfeMTAlphaEm3OutOfEvaluations, out.iterations, out.evaluations)
 			}
-			concaveRightWolfeMTAlphaEm3Derivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += concaveRightWolfeMTAlphaEm3DerivativeCost
+			out.evaluations += concaveRightWolfeMTAlphaEm3Derivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		concaveRightWolfeMTAlphaEm3Difference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o concaveRightWolfeMTAlphaEm3Outcome) ending(end ConcaveRightWolfeMTAlphaE
 	return o
 }
 
+// concaveRightWolfeMTAlphaEm3EnterBox: without bounds every start is inside.
+func concaveRightWolfeMTAlphaEm3EnterBox(x *[1]float64, b *concaveRightWolfeMTAlphaEm3Box) {}
+
 // concaveRightWolfeMTAlphaEm3Finite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func concaveRightWolfeMTAlphaEm3FiniteVec(x *[1]float64) bool {
 	return true
 }
 
-// concaveRightWolfeMTAlphaEm3Differences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// concaveRightWolfeMTAlphaEm3Differences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type concaveRightWolfeMTAlphaEm3Differences struct {
 	ratio     [1]float64
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see concaveRightWolfeMTAlphaEm3RoundingFloor)
+	bounds    concaveRightWolfeMTAlphaEm3Box
 }
 
 // concaveRightWolfeMTAlphaEm3Calibrate: an analytic gradient needs no intervals.
@@ -384,8 +392,9 @@ func concaveRightWolfeMTAlphaEm3Calibrate(x *[1]float64, fx float64, diffs *conc
 }
 
 // concaveRightWolfeMTAlphaEm3Derivative calls the user's gradient; it costs no objective calls.
-func concaveRightWolfeMTAlphaEm3Derivative(x *[1]float64, fx float64, g *[1]float64, diffs *concaveRightWolfeMTAlphaEm3Differences) {
+func concaveRightWolfeMTAlphaEm3Derivative(x *[1]float64, fx float64, g *[1]float64, diffs *concaveRightWolfeMTAlphaEm3Differences) int {
 	g[0] = ConcaveRightDeriv(x[0])
+	return 0
 }
 
 // concaveRightWolfeMTAlphaEm3Direction is steepest descent, d = −∇f(x): the direction of
@@ -401,8 +410,22 @@ func (s *concaveRightWolfeMTAlphaEm3Direction) compute(g, d *[1]float64) {
 
 func (s *concaveRightWolfeMTAlphaEm3Direction) update(step, change *[1]float64) {}
 
+// firstTrial is the scaled trial (concaveRightWolfeMTAlphaEm3ScaledTrial), grown at most by
+// 2^(concaveRightWolfeMTAlphaEm3StepTrials/2) over the previous step t. Steepest descent is the one
+// direction paired with backtracking that scales its first trial, and
+// backtracking can only shrink: after a step that nearly solved the
+// problem the slope collapses, the ratio can exceed the range its trials
+// halve through, and the search would end with no acceptable step. The
+// cap keeps at least half the trials below the previous step (a safeguard
+// of our own; cg, whose ratios can legitimately be that large on badly
+// scaled problems, always pairs with a Wolfe search, which expands and
+// zooms instead).
 func (s *concaveRightWolfeMTAlphaEm3Direction) firstTrial(t, slope, now float64) float64 {
-	return concaveRightWolfeMTAlphaEm3ScaledTrial(t, slope, now)
+	next := concaveRightWolfeMTAlphaEm3ScaledTrial(t, slope, now)
+	if reach := t * math.Ldexp(1, concaveRightWolfeMTAlphaEm3StepTrials/2); next > reach {
+		return reach
+	}
+	return next
 }
 
 // concaveRightWolfeMTAlphaEm3Negate sets out = −x.
@@ -471,13 +494,13 @@ func concaveRightWolfeMTAlphaEm3ConfirmGradient(x *[1]float64, fx float64, g, e 
 		wide.ratio[i] *= 2
 	}
 	var doubled [1]float64
-	concaveRightWolfeMTAlphaEm3Derivative(x, fx, g, diffs)
-	concaveRightWolfeMTAlphaEm3Derivative(x, fx, &doubled, &wide)
+	calls += concaveRightWolfeMTAlphaEm3Derivative(x, fx, g, diffs)
+	calls += concaveRightWolfeMTAlphaEm3Derivative(x, fx, &doubled, &wide)
 	concaveRightWolfeMTAlphaEm3GradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * concaveRightWolfeMTAlphaEm3Abs(g[i]-doubled[i])
 	}
-	return calls + 2*concaveRightWolfeMTAlphaEm3DerivativeCost, true
+	return calls, true
 }
 
 // concaveRightWolfeMTAlphaEm3GradientError: the analytic gradient is taken as exact; its error is
@@ -519,18 +542,60 @@ func concaveRightWolfeMTAlphaEm3DiagonalCurvature(x, g *[1]float64, diffs *conca
 	var moved [1]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := concaveRightWolfeMTAlphaEm3ProbeStep(xi, concaveRightWolfeMTAlphaEm3SquareRoot(concaveRightWolfeMTAlphaEm3UnitRoundoff)*concaveRightWolfeMTAlphaEm3Larger(1, concaveRightWolfeMTAlphaEm3Abs(xi)))
-		probe[i] = up
-		moved[0] = ConcaveRightDeriv(probe[0])
-		h[i] = concaveRightWolfeMTAlphaEm3Abs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := concaveRightWolfeMTAlphaEm3CoordinateRange(i, diffs)
+		up, delta := concaveRightWolfeMTAlphaEm3ProbeStep(xi, concaveRightWolfeMTAlphaEm3OneSide(xi, concaveRightWolfeMTAlphaEm3SquareRoot(concaveRightWolfeMTAlphaEm3UnitRoundoff)*concaveRightWolfeMTAlphaEm3Larger(1, concaveRightWolfeMTAlphaEm3Abs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			moved[0] = ConcaveRightDeriv(probe[0])
+			h[i] = concaveRightWolfeMTAlphaEm3Abs(moved[i]-g[i]) / concaveRightWolfeMTAlphaEm3Abs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// concaveRightWolfeMTAlphaEm3ProbeStep returns x_i moved by h, and the step actually representable.
-func concaveRightWolfeMTAlphaEm3ProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// concaveRightWolfeMTAlphaEm3CoordinateRange: without bounds any probe is allowed.
+func concaveRightWolfeMTAlphaEm3CoordinateRange(i int, diffs *concaveRightWolfeMTAlphaEm3Differences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// concaveRightWolfeMTAlphaEm3ProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func concaveRightWolfeMTAlphaEm3ProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := concaveRightWolfeMTAlphaEm3ClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// concaveRightWolfeMTAlphaEm3ClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func concaveRightWolfeMTAlphaEm3ClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// concaveRightWolfeMTAlphaEm3OneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func concaveRightWolfeMTAlphaEm3OneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // concaveRightWolfeMTAlphaEm3SquareRoot returns √v.
@@ -546,6 +611,11 @@ func concaveRightWolfeMTAlphaEm3Larger(a, b float64) float64 {
 		return a
 	}
 	return b
+}
+
+// concaveRightWolfeMTAlphaEm3Stationarity measures the gradient itself.
+func concaveRightWolfeMTAlphaEm3Stationarity(g, e, x *[1]float64, fx float64, b *concaveRightWolfeMTAlphaEm3Box) (measure, floor float64) {
+	return concaveRightWolfeMTAlphaEm3GradientMeasure(g, e, x, fx)
 }
 
 // concaveRightWolfeMTAlphaEm3GradientMeasure is the scale-free measure
@@ -579,6 +649,15 @@ func concaveRightWolfeMTAlphaEm3StepWithin(s, x *[1]float64, tol float64) bool {
 		}
 	}
 	return true
+}
+
+// concaveRightWolfeMTAlphaEm3CurvaturePair: without bounds the pair is used as it is.
+func concaveRightWolfeMTAlphaEm3CurvaturePair(s, y, x *[1]float64, b *concaveRightWolfeMTAlphaEm3Box) {
+}
+
+// concaveRightWolfeMTAlphaEm3SearchDirection is the direction's own.
+func concaveRightWolfeMTAlphaEm3SearchDirection(dir *concaveRightWolfeMTAlphaEm3Direction, x, g, d *[1]float64, b *concaveRightWolfeMTAlphaEm3Box) {
+	dir.compute(g, d)
 }
 
 // concaveRightWolfeMTAlphaEm3Dot returns aᵀb.
@@ -617,7 +696,10 @@ func concaveRightWolfeMTAlphaEm3TinyStep(x, d *[1]float64, tol float64) float64 
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (concaveRightWolfeMTAlphaEm3StepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -626,13 +708,17 @@ func concaveRightWolfeMTAlphaEm3TinyStep(x, d *[1]float64, tol float64) float64 
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func concaveRightWolfeMTAlphaEm3LineSearch(x *[1]float64, fx float64, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *concaveRightWolfeMTAlphaEm3Differences) concaveRightWolfeMTAlphaEm3LineResult {
+func concaveRightWolfeMTAlphaEm3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *concaveRightWolfeMTAlphaEm3Differences) concaveRightWolfeMTAlphaEm3LineResult {
 	low := concaveRightWolfeMTAlphaEm3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveRightWolfeMTAlphaEm3LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                           // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend concaveRightWolfeMTAlphaEm3RiseTrend // of the trials failing sufficient decrease
+	var trend concaveRightWolfeMTAlphaEm3RiseTrend                         // of the trials failing sufficient decrease
+	limit := concaveRightWolfeMTAlphaEm3StepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < concaveRightWolfeMTAlphaEm3StepTrials; trial++ {
 		if bracketed && concaveRightWolfeMTAlphaEm3Abs(high.step-low.step) <= tiny {
@@ -642,12 +728,12 @@ func concaveRightWolfeMTAlphaEm3LineSearch(x *[1]float64, fx float64, d *[1]floa
 			if low.step == 0 {
 				return concaveRightWolfeMTAlphaEm3LineResult{calls: calls, rising: trend.contradicts(), end: concaveRightWolfeMTAlphaEm3TinyOrExhausted(concaveRightWolfeMTAlphaEm3Finite(high.value))}
 			}
-			return concaveRightWolfeMTAlphaEm3AcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return concaveRightWolfeMTAlphaEm3AcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return concaveRightWolfeMTAlphaEm3LineResult{calls: calls, end: concaveRightWolfeMTAlphaEm3SearchOutOfBudget}
 		}
-		concaveRightWolfeMTAlphaEm3MoveTo(xt, x, t, d)
+		concaveRightWolfeMTAlphaEm3TrialPoint(xt, x, t, d, &diffs.bounds)
 		current := concaveRightWolfeMTAlphaEm3LinePoint{step: t, value: ConcaveRight(xt[0])}
 		calls++
 		previous := low
@@ -658,8 +744,7 @@ func concaveRightWolfeMTAlphaEm3LineSearch(x *[1]float64, fx float64, d *[1]floa
 			if calls+concaveRightWolfeMTAlphaEm3DerivativeCost > budget {
 				return concaveRightWolfeMTAlphaEm3LineResult{calls: calls, end: concaveRightWolfeMTAlphaEm3SearchOutOfBudget}
 			}
-			concaveRightWolfeMTAlphaEm3Derivative(xt, current.value, gt, diffs)
-			calls += concaveRightWolfeMTAlphaEm3DerivativeCost
+			calls += concaveRightWolfeMTAlphaEm3Derivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = concaveRightWolfeMTAlphaEm3Dot(gt, d), true
 			switch {
 			case !concaveRightWolfeMTAlphaEm3Finite(current.slope):
@@ -670,18 +755,22 @@ func concaveRightWolfeMTAlphaEm3LineSearch(x *[1]float64, fx float64, d *[1]floa
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return concaveRightWolfeMTAlphaEm3LineResult{step: t, value: current.value, calls: calls, gradient: true, end: concaveRightWolfeMTAlphaEm3SearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = concaveRightWolfeMTAlphaEm3ZoomTrial(&low, &high)
-		} else {
-			t = concaveRightWolfeMTAlphaEm3ExpandTrial(&previous, &current)
+		} else if t = concaveRightWolfeMTAlphaEm3ExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return concaveRightWolfeMTAlphaEm3AcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return concaveRightWolfeMTAlphaEm3AcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return concaveRightWolfeMTAlphaEm3LineResult{calls: calls, rising: trend.contradicts(), end: concaveRightWolfeMTAlphaEm3SearchExhausted}
 }
@@ -768,6 +857,11 @@ func concaveRightWolfeMTAlphaEm3FaithfulStep(x, xt, d *[1]float64, t float64) bo
 	return true
 }
 
+// concaveRightWolfeMTAlphaEm3StepCap: without bounds a step may be as long as the search wants.
+func concaveRightWolfeMTAlphaEm3StepCap(x, d *[1]float64, tiny float64, b *concaveRightWolfeMTAlphaEm3Box) float64 {
+	return math.Inf(1)
+}
+
 // concaveRightWolfeMTAlphaEm3TinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -792,10 +886,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func concaveRightWolfeMTAlphaEm3AcceptLow(x, d *[1]float64, low *concaveRightWolfeMTAlphaEm3LinePoint, lowGradient *[1]float64, calls int, xt, gt *[1]float64) concaveRightWolfeMTAlphaEm3LineResult {
-	concaveRightWolfeMTAlphaEm3MoveTo(xt, x, low.step, d)
+func concaveRightWolfeMTAlphaEm3AcceptLow(x, d *[1]float64, low *concaveRightWolfeMTAlphaEm3LinePoint, lowGradient *[1]float64, calls int, xt, gt *[1]float64, diffs *concaveRightWolfeMTAlphaEm3Differences) concaveRightWolfeMTAlphaEm3LineResult {
+	concaveRightWolfeMTAlphaEm3TrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return concaveRightWolfeMTAlphaEm3LineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: concaveRightWolfeMTAlphaEm3SearchAccepted}
+}
+
+// concaveRightWolfeMTAlphaEm3TrialPoint is x + t·d.
+func concaveRightWolfeMTAlphaEm3TrialPoint(out, x *[1]float64, t float64, d *[1]float64, b *concaveRightWolfeMTAlphaEm3Box) {
+	concaveRightWolfeMTAlphaEm3MoveTo(out, x, t, d)
 }
 
 // concaveRightWolfeMTAlphaEm3MoveTo sets out = x + t·d.
@@ -850,21 +949,6 @@ func concaveRightWolfeMTAlphaEm3ModelMinimizer(a, b *concaveRightWolfeMTAlphaEm3
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, concaveRightWolfeMTAlphaEm3Finite(t)
-}
-
-// concaveRightWolfeMTAlphaEm3ClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func concaveRightWolfeMTAlphaEm3ClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // concaveRightWolfeMTAlphaEm3ExpandTrial picks a larger trial after current met sufficient decrease

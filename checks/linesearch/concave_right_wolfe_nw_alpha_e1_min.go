@@ -88,6 +88,9 @@ func ConcaveRightWolfeNWAlphaE1DefaultLimits() ConcaveRightWolfeNWAlphaE1Limits 
 	}
 }
 
+// concaveRightWolfeNWAlphaE1Box is empty: linesearch.toml sets no bounds on ConcaveRightWolfeNWAlphaE1.
+type concaveRightWolfeNWAlphaE1Box struct{}
+
 // ConcaveRightWolfeNWAlphaE1 minimizes ConcaveRight from x0, as linesearch.toml specifies.
 //
 // Direction steepest: steepest descent, d = −∇f; no memory, linear convergence.
@@ -105,7 +108,7 @@ func ConcaveRightWolfeNWAlphaE1(x0 float64) ConcaveRightWolfeNWAlphaE1Result {
 
 // ConcaveRightWolfeNWAlphaE1WithLimits is ConcaveRightWolfeNWAlphaE1 with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func ConcaveRightWolfeNWAlphaE1WithLimits(x0 float64, limits ConcaveRightWolfeNWAlphaE1Limits) ConcaveRightWolfeNWAlphaE1Result {
-	out := concaveRightWolfeNWAlphaE1Minimize([1]float64{x0}, limits)
+	out := concaveRightWolfeNWAlphaE1Minimize([1]float64{x0}, limits, concaveRightWolfeNWAlphaE1Box{})
 	return ConcaveRightWolfeNWAlphaE1Result{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func concaveRightWolfeNWAlphaE1Minimize(x0 [1]float64, lim ConcaveRightWolfeNWAlphaE1Limits) concaveRightWolfeNWAlphaE1Outcome {
-	out := concaveRightWolfeNWAlphaE1Outcome{x: x0, status: ConcaveRightWolfeNWAlphaE1OutOfEvaluations, gradient: math.NaN()}
+func concaveRightWolfeNWAlphaE1Minimize(x0 [1]float64, lim ConcaveRightWolfeNWAlphaE1Limits, bounds concaveRightWolfeNWAlphaE1Box) concaveRightWolfeNWAlphaE1Outcome {
+	x := x0
+	concaveRightWolfeNWAlphaE1EnterBox(&x, &bounds)
+	out := concaveRightWolfeNWAlphaE1Outcome{x: x, status: ConcaveRightWolfeNWAlphaE1OutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := ConcaveRight(x[0])
 	out.f, out.evaluations = fx, 1
 	if !concaveRightWolfeNWAlphaE1Finite(fx) || !concaveRightWolfeNWAlphaE1FiniteVec(&x) {
 		out.status = ConcaveRightWolfeNWAlphaE1NonFiniteStart
 		return out
 	}
-	var diffs concaveRightWolfeNWAlphaE1Differences
+	diffs := concaveRightWolfeNWAlphaE1Differences{bounds: bounds}
 	calls, ok := concaveRightWolfeNWAlphaE1Calibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+concaveRightWolfeNWAlphaE1DerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [1]float64
-	concaveRightWolfeNWAlphaE1Derivative(&x, fx, &g, &diffs)
-	out.evaluations += concaveRightWolfeNWAlphaE1DerivativeCost
+	out.evaluations += concaveRightWolfeNWAlphaE1Derivative(&x, fx, &g, &diffs)
 
 	if !concaveRightWolfeNWAlphaE1FiniteVec(&g) {
 		out.status = ConcaveRightWolfeNWAlphaE1NonFiniteGradient
@@ -211,7 +214,7 @@ func concaveRightWolfeNWAlphaE1Minimize(x0 [1]float64, lim ConcaveRightWolfeNWAl
 		case !confirmed:
 			concaveRightWolfeNWAlphaE1GradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := concaveRightWolfeNWAlphaE1GradientMeasure(&g, &e, &x, fx)
+		measure, floor := concaveRightWolfeNWAlphaE1Stationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, concaveRightWolfeNWAlphaE1Larger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func concaveRightWolfeNWAlphaE1Minimize(x0 [1]float64, lim ConcaveRightWolfeNWAl
 			if rises >= 8 {
 				return best.ending(ConcaveRightWolfeNWAlphaE1Diverged, out.iterations, out.evaluations)
 			}
+			concaveRightWolfeNWAlphaE1CurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(ConcaveRightWolfeNWAlphaE1OutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		concaveRightWolfeNWAlphaE1SearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := concaveRightWolfeNWAlphaE1Dot(&g, &d)
 		if !(now < 0) || !concaveRightWolfeNWAlphaE1FiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			concaveRightWolfeNWAlphaE1SearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = concaveRightWolfeNWAlphaE1Dot(&g, &d)
 		}
 		first := float64(concaveRightWolfeNWAlphaE1StepInitial)
@@ -267,7 +271,7 @@ func concaveRightWolfeNWAlphaE1Minimize(x0 [1]float64, lim ConcaveRightWolfeNWAl
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := concaveRightWolfeNWAlphaE1TinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := concaveRightWolfeNWAlphaE1LineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := concaveRightWolfeNWAlphaE1LineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case concaveRightWolfeNWAlphaE1SearchOutOfBudget:
@@ -303,8 +307,7 @@ func concaveRightWolfeNWAlphaE1Minimize(x0 [1]float64, lim ConcaveRightWolfeNWAl
 				}
 				return best.ending(ConcaveRightWolfeNWAlphaE1OutOfEvaluations, out.iterations, out.evaluations)
 			}
-			concaveRightWolfeNWAlphaE1Derivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += concaveRightWolfeNWAlphaE1DerivativeCost
+			out.evaluations += concaveRightWolfeNWAlphaE1Derivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		concaveRightWolfeNWAlphaE1Difference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o concaveRightWolfeNWAlphaE1Outcome) ending(end ConcaveRightWolfeNWAlphaE1
 	return o
 }
 
+// concaveRightWolfeNWAlphaE1EnterBox: without bounds every start is inside.
+func concaveRightWolfeNWAlphaE1EnterBox(x *[1]float64, b *concaveRightWolfeNWAlphaE1Box) {}
+
 // concaveRightWolfeNWAlphaE1Finite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func concaveRightWolfeNWAlphaE1FiniteVec(x *[1]float64) bool {
 	return true
 }
 
-// concaveRightWolfeNWAlphaE1Differences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// concaveRightWolfeNWAlphaE1Differences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type concaveRightWolfeNWAlphaE1Differences struct {
 	ratio     [1]float64
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see concaveRightWolfeNWAlphaE1RoundingFloor)
+	bounds    concaveRightWolfeNWAlphaE1Box
 }
 
 // concaveRightWolfeNWAlphaE1Calibrate: an analytic gradient needs no intervals.
@@ -384,8 +392,9 @@ func concaveRightWolfeNWAlphaE1Calibrate(x *[1]float64, fx float64, diffs *conca
 }
 
 // concaveRightWolfeNWAlphaE1Derivative calls the user's gradient; it costs no objective calls.
-func concaveRightWolfeNWAlphaE1Derivative(x *[1]float64, fx float64, g *[1]float64, diffs *concaveRightWolfeNWAlphaE1Differences) {
+func concaveRightWolfeNWAlphaE1Derivative(x *[1]float64, fx float64, g *[1]float64, diffs *concaveRightWolfeNWAlphaE1Differences) int {
 	g[0] = ConcaveRightDeriv(x[0])
+	return 0
 }
 
 // concaveRightWolfeNWAlphaE1Direction is steepest descent, d = −∇f(x): the direction of
@@ -401,8 +410,22 @@ func (s *concaveRightWolfeNWAlphaE1Direction) compute(g, d *[1]float64) {
 
 func (s *concaveRightWolfeNWAlphaE1Direction) update(step, change *[1]float64) {}
 
+// firstTrial is the scaled trial (concaveRightWolfeNWAlphaE1ScaledTrial), grown at most by
+// 2^(concaveRightWolfeNWAlphaE1StepTrials/2) over the previous step t. Steepest descent is the one
+// direction paired with backtracking that scales its first trial, and
+// backtracking can only shrink: after a step that nearly solved the
+// problem the slope collapses, the ratio can exceed the range its trials
+// halve through, and the search would end with no acceptable step. The
+// cap keeps at least half the trials below the previous step (a safeguard
+// of our own; cg, whose ratios can legitimately be that large on badly
+// scaled problems, always pairs with a Wolfe search, which expands and
+// zooms instead).
 func (s *concaveRightWolfeNWAlphaE1Direction) firstTrial(t, slope, now float64) float64 {
-	return concaveRightWolfeNWAlphaE1ScaledTrial(t, slope, now)
+	next := concaveRightWolfeNWAlphaE1ScaledTrial(t, slope, now)
+	if reach := t * math.Ldexp(1, concaveRightWolfeNWAlphaE1StepTrials/2); next > reach {
+		return reach
+	}
+	return next
 }
 
 // concaveRightWolfeNWAlphaE1Negate sets out = −x.
@@ -471,13 +494,13 @@ func concaveRightWolfeNWAlphaE1ConfirmGradient(x *[1]float64, fx float64, g, e *
 		wide.ratio[i] *= 2
 	}
 	var doubled [1]float64
-	concaveRightWolfeNWAlphaE1Derivative(x, fx, g, diffs)
-	concaveRightWolfeNWAlphaE1Derivative(x, fx, &doubled, &wide)
+	calls += concaveRightWolfeNWAlphaE1Derivative(x, fx, g, diffs)
+	calls += concaveRightWolfeNWAlphaE1Derivative(x, fx, &doubled, &wide)
 	concaveRightWolfeNWAlphaE1GradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * concaveRightWolfeNWAlphaE1Abs(g[i]-doubled[i])
 	}
-	return calls + 2*concaveRightWolfeNWAlphaE1DerivativeCost, true
+	return calls, true
 }
 
 // concaveRightWolfeNWAlphaE1GradientError: the analytic gradient is taken as exact; its error is
@@ -519,18 +542,60 @@ func concaveRightWolfeNWAlphaE1DiagonalCurvature(x, g *[1]float64, diffs *concav
 	var moved [1]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := concaveRightWolfeNWAlphaE1ProbeStep(xi, concaveRightWolfeNWAlphaE1SquareRoot(concaveRightWolfeNWAlphaE1UnitRoundoff)*concaveRightWolfeNWAlphaE1Larger(1, concaveRightWolfeNWAlphaE1Abs(xi)))
-		probe[i] = up
-		moved[0] = ConcaveRightDeriv(probe[0])
-		h[i] = concaveRightWolfeNWAlphaE1Abs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := concaveRightWolfeNWAlphaE1CoordinateRange(i, diffs)
+		up, delta := concaveRightWolfeNWAlphaE1ProbeStep(xi, concaveRightWolfeNWAlphaE1OneSide(xi, concaveRightWolfeNWAlphaE1SquareRoot(concaveRightWolfeNWAlphaE1UnitRoundoff)*concaveRightWolfeNWAlphaE1Larger(1, concaveRightWolfeNWAlphaE1Abs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			moved[0] = ConcaveRightDeriv(probe[0])
+			h[i] = concaveRightWolfeNWAlphaE1Abs(moved[i]-g[i]) / concaveRightWolfeNWAlphaE1Abs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// concaveRightWolfeNWAlphaE1ProbeStep returns x_i moved by h, and the step actually representable.
-func concaveRightWolfeNWAlphaE1ProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// concaveRightWolfeNWAlphaE1CoordinateRange: without bounds any probe is allowed.
+func concaveRightWolfeNWAlphaE1CoordinateRange(i int, diffs *concaveRightWolfeNWAlphaE1Differences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// concaveRightWolfeNWAlphaE1ProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func concaveRightWolfeNWAlphaE1ProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := concaveRightWolfeNWAlphaE1ClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// concaveRightWolfeNWAlphaE1ClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func concaveRightWolfeNWAlphaE1ClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// concaveRightWolfeNWAlphaE1OneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func concaveRightWolfeNWAlphaE1OneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // concaveRightWolfeNWAlphaE1SquareRoot returns √v.
@@ -546,6 +611,11 @@ func concaveRightWolfeNWAlphaE1Larger(a, b float64) float64 {
 		return a
 	}
 	return b
+}
+
+// concaveRightWolfeNWAlphaE1Stationarity measures the gradient itself.
+func concaveRightWolfeNWAlphaE1Stationarity(g, e, x *[1]float64, fx float64, b *concaveRightWolfeNWAlphaE1Box) (measure, floor float64) {
+	return concaveRightWolfeNWAlphaE1GradientMeasure(g, e, x, fx)
 }
 
 // concaveRightWolfeNWAlphaE1GradientMeasure is the scale-free measure
@@ -579,6 +649,14 @@ func concaveRightWolfeNWAlphaE1StepWithin(s, x *[1]float64, tol float64) bool {
 		}
 	}
 	return true
+}
+
+// concaveRightWolfeNWAlphaE1CurvaturePair: without bounds the pair is used as it is.
+func concaveRightWolfeNWAlphaE1CurvaturePair(s, y, x *[1]float64, b *concaveRightWolfeNWAlphaE1Box) {}
+
+// concaveRightWolfeNWAlphaE1SearchDirection is the direction's own.
+func concaveRightWolfeNWAlphaE1SearchDirection(dir *concaveRightWolfeNWAlphaE1Direction, x, g, d *[1]float64, b *concaveRightWolfeNWAlphaE1Box) {
+	dir.compute(g, d)
 }
 
 // concaveRightWolfeNWAlphaE1Dot returns aᵀb.
@@ -617,7 +695,10 @@ func concaveRightWolfeNWAlphaE1TinyStep(x, d *[1]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (concaveRightWolfeNWAlphaE1StepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -626,13 +707,17 @@ func concaveRightWolfeNWAlphaE1TinyStep(x, d *[1]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func concaveRightWolfeNWAlphaE1LineSearch(x *[1]float64, fx float64, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *concaveRightWolfeNWAlphaE1Differences) concaveRightWolfeNWAlphaE1LineResult {
+func concaveRightWolfeNWAlphaE1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *concaveRightWolfeNWAlphaE1Differences) concaveRightWolfeNWAlphaE1LineResult {
 	low := concaveRightWolfeNWAlphaE1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveRightWolfeNWAlphaE1LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                          // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend concaveRightWolfeNWAlphaE1RiseTrend // of the trials failing sufficient decrease
+	var trend concaveRightWolfeNWAlphaE1RiseTrend                         // of the trials failing sufficient decrease
+	limit := concaveRightWolfeNWAlphaE1StepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < concaveRightWolfeNWAlphaE1StepTrials; trial++ {
 		if bracketed && concaveRightWolfeNWAlphaE1Abs(high.step-low.step) <= tiny {
@@ -642,12 +727,12 @@ func concaveRightWolfeNWAlphaE1LineSearch(x *[1]float64, fx float64, d *[1]float
 			if low.step == 0 {
 				return concaveRightWolfeNWAlphaE1LineResult{calls: calls, rising: trend.contradicts(), end: concaveRightWolfeNWAlphaE1TinyOrExhausted(concaveRightWolfeNWAlphaE1Finite(high.value))}
 			}
-			return concaveRightWolfeNWAlphaE1AcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return concaveRightWolfeNWAlphaE1AcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return concaveRightWolfeNWAlphaE1LineResult{calls: calls, end: concaveRightWolfeNWAlphaE1SearchOutOfBudget}
 		}
-		concaveRightWolfeNWAlphaE1MoveTo(xt, x, t, d)
+		concaveRightWolfeNWAlphaE1TrialPoint(xt, x, t, d, &diffs.bounds)
 		current := concaveRightWolfeNWAlphaE1LinePoint{step: t, value: ConcaveRight(xt[0])}
 		calls++
 		previous := low
@@ -658,8 +743,7 @@ func concaveRightWolfeNWAlphaE1LineSearch(x *[1]float64, fx float64, d *[1]float
 			if calls+concaveRightWolfeNWAlphaE1DerivativeCost > budget {
 				return concaveRightWolfeNWAlphaE1LineResult{calls: calls, end: concaveRightWolfeNWAlphaE1SearchOutOfBudget}
 			}
-			concaveRightWolfeNWAlphaE1Derivative(xt, current.value, gt, diffs)
-			calls += concaveRightWolfeNWAlphaE1DerivativeCost
+			calls += concaveRightWolfeNWAlphaE1Derivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = concaveRightWolfeNWAlphaE1Dot(gt, d), true
 			switch {
 			case !concaveRightWolfeNWAlphaE1Finite(current.slope):
@@ -670,18 +754,22 @@ func concaveRightWolfeNWAlphaE1LineSearch(x *[1]float64, fx float64, d *[1]float
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return concaveRightWolfeNWAlphaE1LineResult{step: t, value: current.value, calls: calls, gradient: true, end: concaveRightWolfeNWAlphaE1SearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = concaveRightWolfeNWAlphaE1ZoomTrial(&low, &high)
-		} else {
-			t = concaveRightWolfeNWAlphaE1ExpandTrial(&previous, &current)
+		} else if t = concaveRightWolfeNWAlphaE1ExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return concaveRightWolfeNWAlphaE1AcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return concaveRightWolfeNWAlphaE1AcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return concaveRightWolfeNWAlphaE1LineResult{calls: calls, rising: trend.contradicts(), end: concaveRightWolfeNWAlphaE1SearchExhausted}
 }
@@ -768,6 +856,11 @@ func concaveRightWolfeNWAlphaE1FaithfulStep(x, xt, d *[1]float64, t float64) boo
 	return true
 }
 
+// concaveRightWolfeNWAlphaE1StepCap: without bounds a step may be as long as the search wants.
+func concaveRightWolfeNWAlphaE1StepCap(x, d *[1]float64, tiny float64, b *concaveRightWolfeNWAlphaE1Box) float64 {
+	return math.Inf(1)
+}
+
 // concaveRightWolfeNWAlphaE1TinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -792,10 +885,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func concaveRightWolfeNWAlphaE1AcceptLow(x, d *[1]float64, low *concaveRightWolfeNWAlphaE1LinePoint, lowGradient *[1]float64, calls int, xt, gt *[1]float64) concaveRightWolfeNWAlphaE1LineResult {
-	concaveRightWolfeNWAlphaE1MoveTo(xt, x, low.step, d)
+func concaveRightWolfeNWAlphaE1AcceptLow(x, d *[1]float64, low *concaveRightWolfeNWAlphaE1LinePoint, lowGradient *[1]float64, calls int, xt, gt *[1]float64, diffs *concaveRightWolfeNWAlphaE1Differences) concaveRightWolfeNWAlphaE1LineResult {
+	concaveRightWolfeNWAlphaE1TrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return concaveRightWolfeNWAlphaE1LineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: concaveRightWolfeNWAlphaE1SearchAccepted}
+}
+
+// concaveRightWolfeNWAlphaE1TrialPoint is x + t·d.
+func concaveRightWolfeNWAlphaE1TrialPoint(out, x *[1]float64, t float64, d *[1]float64, b *concaveRightWolfeNWAlphaE1Box) {
+	concaveRightWolfeNWAlphaE1MoveTo(out, x, t, d)
 }
 
 // concaveRightWolfeNWAlphaE1MoveTo sets out = x + t·d.
@@ -850,21 +948,6 @@ func concaveRightWolfeNWAlphaE1ModelMinimizer(a, b *concaveRightWolfeNWAlphaE1Li
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, concaveRightWolfeNWAlphaE1Finite(t)
-}
-
-// concaveRightWolfeNWAlphaE1ClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func concaveRightWolfeNWAlphaE1ClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // concaveRightWolfeNWAlphaE1ExpandTrial picks a larger trial after current met sufficient decrease

@@ -88,6 +88,9 @@ func ConcaveRightWolfeNWAlphaE3DefaultLimits() ConcaveRightWolfeNWAlphaE3Limits 
 	}
 }
 
+// concaveRightWolfeNWAlphaE3Box is empty: linesearch.toml sets no bounds on ConcaveRightWolfeNWAlphaE3.
+type concaveRightWolfeNWAlphaE3Box struct{}
+
 // ConcaveRightWolfeNWAlphaE3 minimizes ConcaveRight from x0, as linesearch.toml specifies.
 //
 // Direction steepest: steepest descent, d = −∇f; no memory, linear convergence.
@@ -105,7 +108,7 @@ func ConcaveRightWolfeNWAlphaE3(x0 float64) ConcaveRightWolfeNWAlphaE3Result {
 
 // ConcaveRightWolfeNWAlphaE3WithLimits is ConcaveRightWolfeNWAlphaE3 with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func ConcaveRightWolfeNWAlphaE3WithLimits(x0 float64, limits ConcaveRightWolfeNWAlphaE3Limits) ConcaveRightWolfeNWAlphaE3Result {
-	out := concaveRightWolfeNWAlphaE3Minimize([1]float64{x0}, limits)
+	out := concaveRightWolfeNWAlphaE3Minimize([1]float64{x0}, limits, concaveRightWolfeNWAlphaE3Box{})
 	return ConcaveRightWolfeNWAlphaE3Result{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func concaveRightWolfeNWAlphaE3Minimize(x0 [1]float64, lim ConcaveRightWolfeNWAlphaE3Limits) concaveRightWolfeNWAlphaE3Outcome {
-	out := concaveRightWolfeNWAlphaE3Outcome{x: x0, status: ConcaveRightWolfeNWAlphaE3OutOfEvaluations, gradient: math.NaN()}
+func concaveRightWolfeNWAlphaE3Minimize(x0 [1]float64, lim ConcaveRightWolfeNWAlphaE3Limits, bounds concaveRightWolfeNWAlphaE3Box) concaveRightWolfeNWAlphaE3Outcome {
+	x := x0
+	concaveRightWolfeNWAlphaE3EnterBox(&x, &bounds)
+	out := concaveRightWolfeNWAlphaE3Outcome{x: x, status: ConcaveRightWolfeNWAlphaE3OutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := ConcaveRight(x[0])
 	out.f, out.evaluations = fx, 1
 	if !concaveRightWolfeNWAlphaE3Finite(fx) || !concaveRightWolfeNWAlphaE3FiniteVec(&x) {
 		out.status = ConcaveRightWolfeNWAlphaE3NonFiniteStart
 		return out
 	}
-	var diffs concaveRightWolfeNWAlphaE3Differences
+	diffs := concaveRightWolfeNWAlphaE3Differences{bounds: bounds}
 	calls, ok := concaveRightWolfeNWAlphaE3Calibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+concaveRightWolfeNWAlphaE3DerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [1]float64
-	concaveRightWolfeNWAlphaE3Derivative(&x, fx, &g, &diffs)
-	out.evaluations += concaveRightWolfeNWAlphaE3DerivativeCost
+	out.evaluations += concaveRightWolfeNWAlphaE3Derivative(&x, fx, &g, &diffs)
 
 	if !concaveRightWolfeNWAlphaE3FiniteVec(&g) {
 		out.status = ConcaveRightWolfeNWAlphaE3NonFiniteGradient
@@ -211,7 +214,7 @@ func concaveRightWolfeNWAlphaE3Minimize(x0 [1]float64, lim ConcaveRightWolfeNWAl
 		case !confirmed:
 			concaveRightWolfeNWAlphaE3GradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := concaveRightWolfeNWAlphaE3GradientMeasure(&g, &e, &x, fx)
+		measure, floor := concaveRightWolfeNWAlphaE3Stationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, concaveRightWolfeNWAlphaE3Larger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func concaveRightWolfeNWAlphaE3Minimize(x0 [1]float64, lim ConcaveRightWolfeNWAl
 			if rises >= 8 {
 				return best.ending(ConcaveRightWolfeNWAlphaE3Diverged, out.iterations, out.evaluations)
 			}
+			concaveRightWolfeNWAlphaE3CurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(ConcaveRightWolfeNWAlphaE3OutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		concaveRightWolfeNWAlphaE3SearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := concaveRightWolfeNWAlphaE3Dot(&g, &d)
 		if !(now < 0) || !concaveRightWolfeNWAlphaE3FiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			concaveRightWolfeNWAlphaE3SearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = concaveRightWolfeNWAlphaE3Dot(&g, &d)
 		}
 		first := float64(concaveRightWolfeNWAlphaE3StepInitial)
@@ -267,7 +271,7 @@ func concaveRightWolfeNWAlphaE3Minimize(x0 [1]float64, lim ConcaveRightWolfeNWAl
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := concaveRightWolfeNWAlphaE3TinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := concaveRightWolfeNWAlphaE3LineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := concaveRightWolfeNWAlphaE3LineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case concaveRightWolfeNWAlphaE3SearchOutOfBudget:
@@ -303,8 +307,7 @@ func concaveRightWolfeNWAlphaE3Minimize(x0 [1]float64, lim ConcaveRightWolfeNWAl
 				}
 				return best.ending(ConcaveRightWolfeNWAlphaE3OutOfEvaluations, out.iterations, out.evaluations)
 			}
-			concaveRightWolfeNWAlphaE3Derivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += concaveRightWolfeNWAlphaE3DerivativeCost
+			out.evaluations += concaveRightWolfeNWAlphaE3Derivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		concaveRightWolfeNWAlphaE3Difference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o concaveRightWolfeNWAlphaE3Outcome) ending(end ConcaveRightWolfeNWAlphaE3
 	return o
 }
 
+// concaveRightWolfeNWAlphaE3EnterBox: without bounds every start is inside.
+func concaveRightWolfeNWAlphaE3EnterBox(x *[1]float64, b *concaveRightWolfeNWAlphaE3Box) {}
+
 // concaveRightWolfeNWAlphaE3Finite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func concaveRightWolfeNWAlphaE3FiniteVec(x *[1]float64) bool {
 	return true
 }
 
-// concaveRightWolfeNWAlphaE3Differences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// concaveRightWolfeNWAlphaE3Differences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type concaveRightWolfeNWAlphaE3Differences struct {
 	ratio     [1]float64
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see concaveRightWolfeNWAlphaE3RoundingFloor)
+	bounds    concaveRightWolfeNWAlphaE3Box
 }
 
 // concaveRightWolfeNWAlphaE3Calibrate: an analytic gradient needs no intervals.
@@ -384,8 +392,9 @@ func concaveRightWolfeNWAlphaE3Calibrate(x *[1]float64, fx float64, diffs *conca
 }
 
 // concaveRightWolfeNWAlphaE3Derivative calls the user's gradient; it costs no objective calls.
-func concaveRightWolfeNWAlphaE3Derivative(x *[1]float64, fx float64, g *[1]float64, diffs *concaveRightWolfeNWAlphaE3Differences) {
+func concaveRightWolfeNWAlphaE3Derivative(x *[1]float64, fx float64, g *[1]float64, diffs *concaveRightWolfeNWAlphaE3Differences) int {
 	g[0] = ConcaveRightDeriv(x[0])
+	return 0
 }
 
 // concaveRightWolfeNWAlphaE3Direction is steepest descent, d = −∇f(x): the direction of
@@ -401,8 +410,22 @@ func (s *concaveRightWolfeNWAlphaE3Direction) compute(g, d *[1]float64) {
 
 func (s *concaveRightWolfeNWAlphaE3Direction) update(step, change *[1]float64) {}
 
+// firstTrial is the scaled trial (concaveRightWolfeNWAlphaE3ScaledTrial), grown at most by
+// 2^(concaveRightWolfeNWAlphaE3StepTrials/2) over the previous step t. Steepest descent is the one
+// direction paired with backtracking that scales its first trial, and
+// backtracking can only shrink: after a step that nearly solved the
+// problem the slope collapses, the ratio can exceed the range its trials
+// halve through, and the search would end with no acceptable step. The
+// cap keeps at least half the trials below the previous step (a safeguard
+// of our own; cg, whose ratios can legitimately be that large on badly
+// scaled problems, always pairs with a Wolfe search, which expands and
+// zooms instead).
 func (s *concaveRightWolfeNWAlphaE3Direction) firstTrial(t, slope, now float64) float64 {
-	return concaveRightWolfeNWAlphaE3ScaledTrial(t, slope, now)
+	next := concaveRightWolfeNWAlphaE3ScaledTrial(t, slope, now)
+	if reach := t * math.Ldexp(1, concaveRightWolfeNWAlphaE3StepTrials/2); next > reach {
+		return reach
+	}
+	return next
 }
 
 // concaveRightWolfeNWAlphaE3Negate sets out = −x.
@@ -471,13 +494,13 @@ func concaveRightWolfeNWAlphaE3ConfirmGradient(x *[1]float64, fx float64, g, e *
 		wide.ratio[i] *= 2
 	}
 	var doubled [1]float64
-	concaveRightWolfeNWAlphaE3Derivative(x, fx, g, diffs)
-	concaveRightWolfeNWAlphaE3Derivative(x, fx, &doubled, &wide)
+	calls += concaveRightWolfeNWAlphaE3Derivative(x, fx, g, diffs)
+	calls += concaveRightWolfeNWAlphaE3Derivative(x, fx, &doubled, &wide)
 	concaveRightWolfeNWAlphaE3GradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * concaveRightWolfeNWAlphaE3Abs(g[i]-doubled[i])
 	}
-	return calls + 2*concaveRightWolfeNWAlphaE3DerivativeCost, true
+	return calls, true
 }
 
 // concaveRightWolfeNWAlphaE3GradientError: the analytic gradient is taken as exact; its error is
@@ -519,18 +542,60 @@ func concaveRightWolfeNWAlphaE3DiagonalCurvature(x, g *[1]float64, diffs *concav
 	var moved [1]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := concaveRightWolfeNWAlphaE3ProbeStep(xi, concaveRightWolfeNWAlphaE3SquareRoot(concaveRightWolfeNWAlphaE3UnitRoundoff)*concaveRightWolfeNWAlphaE3Larger(1, concaveRightWolfeNWAlphaE3Abs(xi)))
-		probe[i] = up
-		moved[0] = ConcaveRightDeriv(probe[0])
-		h[i] = concaveRightWolfeNWAlphaE3Abs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := concaveRightWolfeNWAlphaE3CoordinateRange(i, diffs)
+		up, delta := concaveRightWolfeNWAlphaE3ProbeStep(xi, concaveRightWolfeNWAlphaE3OneSide(xi, concaveRightWolfeNWAlphaE3SquareRoot(concaveRightWolfeNWAlphaE3UnitRoundoff)*concaveRightWolfeNWAlphaE3Larger(1, concaveRightWolfeNWAlphaE3Abs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			moved[0] = ConcaveRightDeriv(probe[0])
+			h[i] = concaveRightWolfeNWAlphaE3Abs(moved[i]-g[i]) / concaveRightWolfeNWAlphaE3Abs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// concaveRightWolfeNWAlphaE3ProbeStep returns x_i moved by h, and the step actually representable.
-func concaveRightWolfeNWAlphaE3ProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// concaveRightWolfeNWAlphaE3CoordinateRange: without bounds any probe is allowed.
+func concaveRightWolfeNWAlphaE3CoordinateRange(i int, diffs *concaveRightWolfeNWAlphaE3Differences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// concaveRightWolfeNWAlphaE3ProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func concaveRightWolfeNWAlphaE3ProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := concaveRightWolfeNWAlphaE3ClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// concaveRightWolfeNWAlphaE3ClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func concaveRightWolfeNWAlphaE3ClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// concaveRightWolfeNWAlphaE3OneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func concaveRightWolfeNWAlphaE3OneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // concaveRightWolfeNWAlphaE3SquareRoot returns √v.
@@ -546,6 +611,11 @@ func concaveRightWolfeNWAlphaE3Larger(a, b float64) float64 {
 		return a
 	}
 	return b
+}
+
+// concaveRightWolfeNWAlphaE3Stationarity measures the gradient itself.
+func concaveRightWolfeNWAlphaE3Stationarity(g, e, x *[1]float64, fx float64, b *concaveRightWolfeNWAlphaE3Box) (measure, floor float64) {
+	return concaveRightWolfeNWAlphaE3GradientMeasure(g, e, x, fx)
 }
 
 // concaveRightWolfeNWAlphaE3GradientMeasure is the scale-free measure
@@ -579,6 +649,14 @@ func concaveRightWolfeNWAlphaE3StepWithin(s, x *[1]float64, tol float64) bool {
 		}
 	}
 	return true
+}
+
+// concaveRightWolfeNWAlphaE3CurvaturePair: without bounds the pair is used as it is.
+func concaveRightWolfeNWAlphaE3CurvaturePair(s, y, x *[1]float64, b *concaveRightWolfeNWAlphaE3Box) {}
+
+// concaveRightWolfeNWAlphaE3SearchDirection is the direction's own.
+func concaveRightWolfeNWAlphaE3SearchDirection(dir *concaveRightWolfeNWAlphaE3Direction, x, g, d *[1]float64, b *concaveRightWolfeNWAlphaE3Box) {
+	dir.compute(g, d)
 }
 
 // concaveRightWolfeNWAlphaE3Dot returns aᵀb.
@@ -617,7 +695,10 @@ func concaveRightWolfeNWAlphaE3TinyStep(x, d *[1]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (concaveRightWolfeNWAlphaE3StepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -626,13 +707,17 @@ func concaveRightWolfeNWAlphaE3TinyStep(x, d *[1]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func concaveRightWolfeNWAlphaE3LineSearch(x *[1]float64, fx float64, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *concaveRightWolfeNWAlphaE3Differences) concaveRightWolfeNWAlphaE3LineResult {
+func concaveRightWolfeNWAlphaE3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *concaveRightWolfeNWAlphaE3Differences) concaveRightWolfeNWAlphaE3LineResult {
 	low := concaveRightWolfeNWAlphaE3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveRightWolfeNWAlphaE3LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                          // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend concaveRightWolfeNWAlphaE3RiseTrend // of the trials failing sufficient decrease
+	var trend concaveRightWolfeNWAlphaE3RiseTrend                         // of the trials failing sufficient decrease
+	limit := concaveRightWolfeNWAlphaE3StepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < concaveRightWolfeNWAlphaE3StepTrials; trial++ {
 		if bracketed && concaveRightWolfeNWAlphaE3Abs(high.step-low.step) <= tiny {
@@ -642,12 +727,12 @@ func concaveRightWolfeNWAlphaE3LineSearch(x *[1]float64, fx float64, d *[1]float
 			if low.step == 0 {
 				return concaveRightWolfeNWAlphaE3LineResult{calls: calls, rising: trend.contradicts(), end: concaveRightWolfeNWAlphaE3TinyOrExhausted(concaveRightWolfeNWAlphaE3Finite(high.value))}
 			}
-			return concaveRightWolfeNWAlphaE3AcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return concaveRightWolfeNWAlphaE3AcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return concaveRightWolfeNWAlphaE3LineResult{calls: calls, end: concaveRightWolfeNWAlphaE3SearchOutOfBudget}
 		}
-		concaveRightWolfeNWAlphaE3MoveTo(xt, x, t, d)
+		concaveRightWolfeNWAlphaE3TrialPoint(xt, x, t, d, &diffs.bounds)
 		current := concaveRightWolfeNWAlphaE3LinePoint{step: t, value: ConcaveRight(xt[0])}
 		calls++
 		previous := low
@@ -658,8 +743,7 @@ func concaveRightWolfeNWAlphaE3LineSearch(x *[1]float64, fx float64, d *[1]float
 			if calls+concaveRightWolfeNWAlphaE3DerivativeCost > budget {
 				return concaveRightWolfeNWAlphaE3LineResult{calls: calls, end: concaveRightWolfeNWAlphaE3SearchOutOfBudget}
 			}
-			concaveRightWolfeNWAlphaE3Derivative(xt, current.value, gt, diffs)
-			calls += concaveRightWolfeNWAlphaE3DerivativeCost
+			calls += concaveRightWolfeNWAlphaE3Derivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = concaveRightWolfeNWAlphaE3Dot(gt, d), true
 			switch {
 			case !concaveRightWolfeNWAlphaE3Finite(current.slope):
@@ -670,18 +754,22 @@ func concaveRightWolfeNWAlphaE3LineSearch(x *[1]float64, fx float64, d *[1]float
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return concaveRightWolfeNWAlphaE3LineResult{step: t, value: current.value, calls: calls, gradient: true, end: concaveRightWolfeNWAlphaE3SearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = concaveRightWolfeNWAlphaE3ZoomTrial(&low, &high)
-		} else {
-			t = concaveRightWolfeNWAlphaE3ExpandTrial(&previous, &current)
+		} else if t = concaveRightWolfeNWAlphaE3ExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return concaveRightWolfeNWAlphaE3AcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return concaveRightWolfeNWAlphaE3AcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return concaveRightWolfeNWAlphaE3LineResult{calls: calls, rising: trend.contradicts(), end: concaveRightWolfeNWAlphaE3SearchExhausted}
 }
@@ -768,6 +856,11 @@ func concaveRightWolfeNWAlphaE3FaithfulStep(x, xt, d *[1]float64, t float64) boo
 	return true
 }
 
+// concaveRightWolfeNWAlphaE3StepCap: without bounds a step may be as long as the search wants.
+func concaveRightWolfeNWAlphaE3StepCap(x, d *[1]float64, tiny float64, b *concaveRightWolfeNWAlphaE3Box) float64 {
+	return math.Inf(1)
+}
+
 // concaveRightWolfeNWAlphaE3TinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -792,10 +885,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func concaveRightWolfeNWAlphaE3AcceptLow(x, d *[1]float64, low *concaveRightWolfeNWAlphaE3LinePoint, lowGradient *[1]float64, calls int, xt, gt *[1]float64) concaveRightWolfeNWAlphaE3LineResult {
-	concaveRightWolfeNWAlphaE3MoveTo(xt, x, low.step, d)
+func concaveRightWolfeNWAlphaE3AcceptLow(x, d *[1]float64, low *concaveRightWolfeNWAlphaE3LinePoint, lowGradient *[1]float64, calls int, xt, gt *[1]float64, diffs *concaveRightWolfeNWAlphaE3Differences) concaveRightWolfeNWAlphaE3LineResult {
+	concaveRightWolfeNWAlphaE3TrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return concaveRightWolfeNWAlphaE3LineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: concaveRightWolfeNWAlphaE3SearchAccepted}
+}
+
+// concaveRightWolfeNWAlphaE3TrialPoint is x + t·d.
+func concaveRightWolfeNWAlphaE3TrialPoint(out, x *[1]float64, t float64, d *[1]float64, b *concaveRightWolfeNWAlphaE3Box) {
+	concaveRightWolfeNWAlphaE3MoveTo(out, x, t, d)
 }
 
 // concaveRightWolfeNWAlphaE3MoveTo sets out = x + t·d.
@@ -850,21 +948,6 @@ func concaveRightWolfeNWAlphaE3ModelMinimizer(a, b *concaveRightWolfeNWAlphaE3Li
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, concaveRightWolfeNWAlphaE3Finite(t)
-}
-
-// concaveRightWolfeNWAlphaE3ClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func concaveRightWolfeNWAlphaE3ClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // concaveRightWolfeNWAlphaE3ExpandTrial picks a larger trial after current met sufficient decrease

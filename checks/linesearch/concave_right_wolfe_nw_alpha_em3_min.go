@@ -88,6 +88,9 @@ func ConcaveRightWolfeNWAlphaEm3DefaultLimits() ConcaveRightWolfeNWAlphaEm3Limit
 	}
 }
 
+// concaveRightWolfeNWAlphaEm3Box is empty: linesearch.toml sets no bounds on ConcaveRightWolfeNWAlphaEm3.
+type concaveRightWolfeNWAlphaEm3Box struct{}
+
 // ConcaveRightWolfeNWAlphaEm3 minimizes ConcaveRight from x0, as linesearch.toml specifies.
 //
 // Direction steepest: steepest descent, d = −∇f; no memory, linear convergence.
@@ -105,7 +108,7 @@ func ConcaveRightWolfeNWAlphaEm3(x0 float64) ConcaveRightWolfeNWAlphaEm3Result {
 
 // ConcaveRightWolfeNWAlphaEm3WithLimits is ConcaveRightWolfeNWAlphaEm3 with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func ConcaveRightWolfeNWAlphaEm3WithLimits(x0 float64, limits ConcaveRightWolfeNWAlphaEm3Limits) ConcaveRightWolfeNWAlphaEm3Result {
-	out := concaveRightWolfeNWAlphaEm3Minimize([1]float64{x0}, limits)
+	out := concaveRightWolfeNWAlphaEm3Minimize([1]float64{x0}, limits, concaveRightWolfeNWAlphaEm3Box{})
 	return ConcaveRightWolfeNWAlphaEm3Result{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func concaveRightWolfeNWAlphaEm3Minimize(x0 [1]float64, lim ConcaveRightWolfeNWAlphaEm3Limits) concaveRightWolfeNWAlphaEm3Outcome {
-	out := concaveRightWolfeNWAlphaEm3Outcome{x: x0, status: ConcaveRightWolfeNWAlphaEm3OutOfEvaluations, gradient: math.NaN()}
+func concaveRightWolfeNWAlphaEm3Minimize(x0 [1]float64, lim ConcaveRightWolfeNWAlphaEm3Limits, bounds concaveRightWolfeNWAlphaEm3Box) concaveRightWolfeNWAlphaEm3Outcome {
+	x := x0
+	concaveRightWolfeNWAlphaEm3EnterBox(&x, &bounds)
+	out := concaveRightWolfeNWAlphaEm3Outcome{x: x, status: ConcaveRightWolfeNWAlphaEm3OutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := ConcaveRight(x[0])
 	out.f, out.evaluations = fx, 1
 	if !concaveRightWolfeNWAlphaEm3Finite(fx) || !concaveRightWolfeNWAlphaEm3FiniteVec(&x) {
 		out.status = ConcaveRightWolfeNWAlphaEm3NonFiniteStart
 		return out
 	}
-	var diffs concaveRightWolfeNWAlphaEm3Differences
+	diffs := concaveRightWolfeNWAlphaEm3Differences{bounds: bounds}
 	calls, ok := concaveRightWolfeNWAlphaEm3Calibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+concaveRightWolfeNWAlphaEm3DerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [1]float64
-	concaveRightWolfeNWAlphaEm3Derivative(&x, fx, &g, &diffs)
-	out.evaluations += concaveRightWolfeNWAlphaEm3DerivativeCost
+	out.evaluations += concaveRightWolfeNWAlphaEm3Derivative(&x, fx, &g, &diffs)
 
 	if !concaveRightWolfeNWAlphaEm3FiniteVec(&g) {
 		out.status = ConcaveRightWolfeNWAlphaEm3NonFiniteGradient
@@ -211,7 +214,7 @@ func concaveRightWolfeNWAlphaEm3Minimize(x0 [1]float64, lim ConcaveRightWolfeNWA
 		case !confirmed:
 			concaveRightWolfeNWAlphaEm3GradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := concaveRightWolfeNWAlphaEm3GradientMeasure(&g, &e, &x, fx)
+		measure, floor := concaveRightWolfeNWAlphaEm3Stationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, concaveRightWolfeNWAlphaEm3Larger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func concaveRightWolfeNWAlphaEm3Minimize(x0 [1]float64, lim ConcaveRightWolfeNWA
 			if rises >= 8 {
 				return best.ending(ConcaveRightWolfeNWAlphaEm3Diverged, out.iterations, out.evaluations)
 			}
+			concaveRightWolfeNWAlphaEm3CurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(ConcaveRightWolfeNWAlphaEm3OutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		concaveRightWolfeNWAlphaEm3SearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := concaveRightWolfeNWAlphaEm3Dot(&g, &d)
 		if !(now < 0) || !concaveRightWolfeNWAlphaEm3FiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			concaveRightWolfeNWAlphaEm3SearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = concaveRightWolfeNWAlphaEm3Dot(&g, &d)
 		}
 		first := float64(concaveRightWolfeNWAlphaEm3StepInitial)
@@ -267,7 +271,7 @@ func concaveRightWolfeNWAlphaEm3Minimize(x0 [1]float64, lim ConcaveRightWolfeNWA
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := concaveRightWolfeNWAlphaEm3TinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := concaveRightWolfeNWAlphaEm3LineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := concaveRightWolfeNWAlphaEm3LineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case concaveRightWolfeNWAlphaEm3SearchOutOfBudget:
@@ -303,8 +307,7 @@ func concaveRightWolfeNWAlphaEm3Minimize(x0 [1]float64, lim ConcaveRightWolfeNWA
 				}
 				return best.ending(ConcaveRightWolfeNWAlphaEm3OutOfEvaluations, out.iterations, out.evaluations)
 			}
-			concaveRightWolfeNWAlphaEm3Derivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += concaveRightWolfeNWAlphaEm3DerivativeCost
+			out.evaluations += concaveRightWolfeNWAlphaEm3Derivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		concaveRightWolfeNWAlphaEm3Difference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o concaveRightWolfeNWAlphaEm3Outcome) ending(end ConcaveRightWolfeNWAlphaE
 	return o
 }
 
+// concaveRightWolfeNWAlphaEm3EnterBox: without bounds every start is inside.
+func concaveRightWolfeNWAlphaEm3EnterBox(x *[1]float64, b *concaveRightWolfeNWAlphaEm3Box) {}
+
 // concaveRightWolfeNWAlphaEm3Finite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func concaveRightWolfeNWAlphaEm3FiniteVec(x *[1]float64) bool {
 	return true
 }
 
-// concaveRightWolfeNWAlphaEm3Differences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// concaveRightWolfeNWAlphaEm3Differences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type concaveRightWolfeNWAlphaEm3Differences struct {
 	ratio     [1]float64
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see concaveRightWolfeNWAlphaEm3RoundingFloor)
+	bounds    concaveRightWolfeNWAlphaEm3Box
 }
 
 // concaveRightWolfeNWAlphaEm3Calibrate: an analytic gradient needs no intervals.
@@ -384,8 +392,9 @@ func concaveRightWolfeNWAlphaEm3Calibrate(x *[1]float64, fx float64, diffs *conc
 }
 
 // concaveRightWolfeNWAlphaEm3Derivative calls the user's gradient; it costs no objective calls.
-func concaveRightWolfeNWAlphaEm3Derivative(x *[1]float64, fx float64, g *[1]float64, diffs *concaveRightWolfeNWAlphaEm3Differences) {
+func concaveRightWolfeNWAlphaEm3Derivative(x *[1]float64, fx float64, g *[1]float64, diffs *concaveRightWolfeNWAlphaEm3Differences) int {
 	g[0] = ConcaveRightDeriv(x[0])
+	return 0
 }
 
 // concaveRightWolfeNWAlphaEm3Direction is steepest descent, d = −∇f(x): the direction of
@@ -401,8 +410,22 @@ func (s *concaveRightWolfeNWAlphaEm3Direction) compute(g, d *[1]float64) {
 
 func (s *concaveRightWolfeNWAlphaEm3Direction) update(step, change *[1]float64) {}
 
+// firstTrial is the scaled trial (concaveRightWolfeNWAlphaEm3ScaledTrial), grown at most by
+// 2^(concaveRightWolfeNWAlphaEm3StepTrials/2) over the previous step t. Steepest descent is the one
+// direction paired with backtracking that scales its first trial, and
+// backtracking can only shrink: after a step that nearly solved the
+// problem the slope collapses, the ratio can exceed the range its trials
+// halve through, and the search would end with no acceptable step. The
+// cap keeps at least half the trials below the previous step (a safeguard
+// of our own; cg, whose ratios can legitimately be that large on badly
+// scaled problems, always pairs with a Wolfe search, which expands and
+// zooms instead).
 func (s *concaveRightWolfeNWAlphaEm3Direction) firstTrial(t, slope, now float64) float64 {
-	return concaveRightWolfeNWAlphaEm3ScaledTrial(t, slope, now)
+	next := concaveRightWolfeNWAlphaEm3ScaledTrial(t, slope, now)
+	if reach := t * math.Ldexp(1, concaveRightWolfeNWAlphaEm3StepTrials/2); next > reach {
+		return reach
+	}
+	return next
 }
 
 // concaveRightWolfeNWAlphaEm3Negate sets out = −x.
@@ -471,13 +494,13 @@ func concaveRightWolfeNWAlphaEm3ConfirmGradient(x *[1]float64, fx float64, g, e 
 		wide.ratio[i] *= 2
 	}
 	var doubled [1]float64
-	concaveRightWolfeNWAlphaEm3Derivative(x, fx, g, diffs)
-	concaveRightWolfeNWAlphaEm3Derivative(x, fx, &doubled, &wide)
+	calls += concaveRightWolfeNWAlphaEm3Derivative(x, fx, g, diffs)
+	calls += concaveRightWolfeNWAlphaEm3Derivative(x, fx, &doubled, &wide)
 	concaveRightWolfeNWAlphaEm3GradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * concaveRightWolfeNWAlphaEm3Abs(g[i]-doubled[i])
 	}
-	return calls + 2*concaveRightWolfeNWAlphaEm3DerivativeCost, true
+	return calls, true
 }
 
 // concaveRightWolfeNWAlphaEm3GradientError: the analytic gradient is taken as exact; its error is
@@ -519,18 +542,60 @@ func concaveRightWolfeNWAlphaEm3DiagonalCurvature(x, g *[1]float64, diffs *conca
 	var moved [1]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := concaveRightWolfeNWAlphaEm3ProbeStep(xi, concaveRightWolfeNWAlphaEm3SquareRoot(concaveRightWolfeNWAlphaEm3UnitRoundoff)*concaveRightWolfeNWAlphaEm3Larger(1, concaveRightWolfeNWAlphaEm3Abs(xi)))
-		probe[i] = up
-		moved[0] = ConcaveRightDeriv(probe[0])
-		h[i] = concaveRightWolfeNWAlphaEm3Abs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := concaveRightWolfeNWAlphaEm3CoordinateRange(i, diffs)
+		up, delta := concaveRightWolfeNWAlphaEm3ProbeStep(xi, concaveRightWolfeNWAlphaEm3OneSide(xi, concaveRightWolfeNWAlphaEm3SquareRoot(concaveRightWolfeNWAlphaEm3UnitRoundoff)*concaveRightWolfeNWAlphaEm3Larger(1, concaveRightWolfeNWAlphaEm3Abs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			moved[0] = ConcaveRightDeriv(probe[0])
+			h[i] = concaveRightWolfeNWAlphaEm3Abs(moved[i]-g[i]) / concaveRightWolfeNWAlphaEm3Abs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// concaveRightWolfeNWAlphaEm3ProbeStep returns x_i moved by h, and the step actually representable.
-func concaveRightWolfeNWAlphaEm3ProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// concaveRightWolfeNWAlphaEm3CoordinateRange: without bounds any probe is allowed.
+func concaveRightWolfeNWAlphaEm3CoordinateRange(i int, diffs *concaveRightWolfeNWAlphaEm3Differences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// concaveRightWolfeNWAlphaEm3ProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func concaveRightWolfeNWAlphaEm3ProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := concaveRightWolfeNWAlphaEm3ClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// concaveRightWolfeNWAlphaEm3ClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func concaveRightWolfeNWAlphaEm3ClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// concaveRightWolfeNWAlphaEm3OneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func concaveRightWolfeNWAlphaEm3OneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // concaveRightWolfeNWAlphaEm3SquareRoot returns √v.
@@ -546,6 +611,11 @@ func concaveRightWolfeNWAlphaEm3Larger(a, b float64) float64 {
 		return a
 	}
 	return b
+}
+
+// concaveRightWolfeNWAlphaEm3Stationarity measures the gradient itself.
+func concaveRightWolfeNWAlphaEm3Stationarity(g, e, x *[1]float64, fx float64, b *concaveRightWolfeNWAlphaEm3Box) (measure, floor float64) {
+	return concaveRightWolfeNWAlphaEm3GradientMeasure(g, e, x, fx)
 }
 
 // concaveRightWolfeNWAlphaEm3GradientMeasure is the scale-free measure
@@ -579,6 +649,15 @@ func concaveRightWolfeNWAlphaEm3StepWithin(s, x *[1]float64, tol float64) bool {
 		}
 	}
 	return true
+}
+
+// concaveRightWolfeNWAlphaEm3CurvaturePair: without bounds the pair is used as it is.
+func concaveRightWolfeNWAlphaEm3CurvaturePair(s, y, x *[1]float64, b *concaveRightWolfeNWAlphaEm3Box) {
+}
+
+// concaveRightWolfeNWAlphaEm3SearchDirection is the direction's own.
+func concaveRightWolfeNWAlphaEm3SearchDirection(dir *concaveRightWolfeNWAlphaEm3Direction, x, g, d *[1]float64, b *concaveRightWolfeNWAlphaEm3Box) {
+	dir.compute(g, d)
 }
 
 // concaveRightWolfeNWAlphaEm3Dot returns aᵀb.
@@ -617,7 +696,10 @@ func concaveRightWolfeNWAlphaEm3TinyStep(x, d *[1]float64, tol float64) float64 
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (concaveRightWolfeNWAlphaEm3StepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -626,13 +708,17 @@ func concaveRightWolfeNWAlphaEm3TinyStep(x, d *[1]float64, tol float64) float64 
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func concaveRightWolfeNWAlphaEm3LineSearch(x *[1]float64, fx float64, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *concaveRightWolfeNWAlphaEm3Differences) concaveRightWolfeNWAlphaEm3LineResult {
+func concaveRightWolfeNWAlphaEm3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *concaveRightWolfeNWAlphaEm3Differences) concaveRightWolfeNWAlphaEm3LineResult {
 	low := concaveRightWolfeNWAlphaEm3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high concaveRightWolfeNWAlphaEm3LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                           // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend concaveRightWolfeNWAlphaEm3RiseTrend // of the trials failing sufficient decrease
+	var trend concaveRightWolfeNWAlphaEm3RiseTrend                         // of the trials failing sufficient decrease
+	limit := concaveRightWolfeNWAlphaEm3StepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < concaveRightWolfeNWAlphaEm3StepTrials; trial++ {
 		if bracketed && concaveRightWolfeNWAlphaEm3Abs(high.step-low.step) <= tiny {
@@ -642,12 +728,12 @@ func concaveRightWolfeNWAlphaEm3LineSearch(x *[1]float64, fx float64, d *[1]floa
 			if low.step == 0 {
 				return concaveRightWolfeNWAlphaEm3LineResult{calls: calls, rising: trend.contradicts(), end: concaveRightWolfeNWAlphaEm3TinyOrExhausted(concaveRightWolfeNWAlphaEm3Finite(high.value))}
 			}
-			return concaveRightWolfeNWAlphaEm3AcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return concaveRightWolfeNWAlphaEm3AcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return concaveRightWolfeNWAlphaEm3LineResult{calls: calls, end: concaveRightWolfeNWAlphaEm3SearchOutOfBudget}
 		}
-		concaveRightWolfeNWAlphaEm3MoveTo(xt, x, t, d)
+		concaveRightWolfeNWAlphaEm3TrialPoint(xt, x, t, d, &diffs.bounds)
 		current := concaveRightWolfeNWAlphaEm3LinePoint{step: t, value: ConcaveRight(xt[0])}
 		calls++
 		previous := low
@@ -658,8 +744,7 @@ func concaveRightWolfeNWAlphaEm3LineSearch(x *[1]float64, fx float64, d *[1]floa
 			if calls+concaveRightWolfeNWAlphaEm3DerivativeCost > budget {
 				return concaveRightWolfeNWAlphaEm3LineResult{calls: calls, end: concaveRightWolfeNWAlphaEm3SearchOutOfBudget}
 			}
-			concaveRightWolfeNWAlphaEm3Derivative(xt, current.value, gt, diffs)
-			calls += concaveRightWolfeNWAlphaEm3DerivativeCost
+			calls += concaveRightWolfeNWAlphaEm3Derivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = concaveRightWolfeNWAlphaEm3Dot(gt, d), true
 			switch {
 			case !concaveRightWolfeNWAlphaEm3Finite(current.slope):
@@ -670,18 +755,22 @@ func concaveRightWolfeNWAlphaEm3LineSearch(x *[1]float64, fx float64, d *[1]floa
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return concaveRightWolfeNWAlphaEm3LineResult{step: t, value: current.value, calls: calls, gradient: true, end: concaveRightWolfeNWAlphaEm3SearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = concaveRightWolfeNWAlphaEm3ZoomTrial(&low, &high)
-		} else {
-			t = concaveRightWolfeNWAlphaEm3ExpandTrial(&previous, &current)
+		} else if t = concaveRightWolfeNWAlphaEm3ExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return concaveRightWolfeNWAlphaEm3AcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return concaveRightWolfeNWAlphaEm3AcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return concaveRightWolfeNWAlphaEm3LineResult{calls: calls, rising: trend.contradicts(), end: concaveRightWolfeNWAlphaEm3SearchExhausted}
 }
@@ -768,6 +857,11 @@ func concaveRightWolfeNWAlphaEm3FaithfulStep(x, xt, d *[1]float64, t float64) bo
 	return true
 }
 
+// concaveRightWolfeNWAlphaEm3StepCap: without bounds a step may be as long as the search wants.
+func concaveRightWolfeNWAlphaEm3StepCap(x, d *[1]float64, tiny float64, b *concaveRightWolfeNWAlphaEm3Box) float64 {
+	return math.Inf(1)
+}
+
 // concaveRightWolfeNWAlphaEm3TinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -792,10 +886,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func concaveRightWolfeNWAlphaEm3AcceptLow(x, d *[1]float64, low *concaveRightWolfeNWAlphaEm3LinePoint, lowGradient *[1]float64, calls int, xt, gt *[1]float64) concaveRightWolfeNWAlphaEm3LineResult {
-	concaveRightWolfeNWAlphaEm3MoveTo(xt, x, low.step, d)
+func concaveRightWolfeNWAlphaEm3AcceptLow(x, d *[1]float64, low *concaveRightWolfeNWAlphaEm3LinePoint, lowGradient *[1]float64, calls int, xt, gt *[1]float64, diffs *concaveRightWolfeNWAlphaEm3Differences) concaveRightWolfeNWAlphaEm3LineResult {
+	concaveRightWolfeNWAlphaEm3TrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return concaveRightWolfeNWAlphaEm3LineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: concaveRightWolfeNWAlphaEm3SearchAccepted}
+}
+
+// concaveRightWolfeNWAlphaEm3TrialPoint is x + t·d.
+func concaveRightWolfeNWAlphaEm3TrialPoint(out, x *[1]float64, t float64, d *[1]float64, b *concaveRightWolfeNWAlphaEm3Box) {
+	concaveRightWolfeNWAlphaEm3MoveTo(out, x, t, d)
 }
 
 // concaveRightWolfeNWAlphaEm3MoveTo sets out = x + t·d.
@@ -850,21 +949,6 @@ func concaveRightWolfeNWAlphaEm3ModelMinimizer(a, b *concaveRightWolfeNWAlphaEm3
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, concaveRightWolfeNWAlphaEm3Finite(t)
-}
-
-// concaveRightWolfeNWAlphaEm3ClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func concaveRightWolfeNWAlphaEm3ClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // concaveRightWolfeNWAlphaEm3ExpandTrial picks a larger trial after current met sufficient decrease

@@ -88,6 +88,9 @@ func PlassmannStrongWolfeMTAlphaE1DefaultLimits() PlassmannStrongWolfeMTAlphaE1L
 	}
 }
 
+// plassmannStrongWolfeMTAlphaE1Box is empty: linesearch.toml sets no bounds on PlassmannStrongWolfeMTAlphaE1.
+type plassmannStrongWolfeMTAlphaE1Box struct{}
+
 // PlassmannStrongWolfeMTAlphaE1 minimizes Plassmann from x0, as linesearch.toml specifies.
 //
 // Direction steepest: steepest descent, d = −∇f; no memory, linear convergence.
@@ -105,7 +108,7 @@ func PlassmannStrongWolfeMTAlphaE1(x0 float64) PlassmannStrongWolfeMTAlphaE1Resu
 
 // PlassmannStrongWolfeMTAlphaE1WithLimits is PlassmannStrongWolfeMTAlphaE1 with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func PlassmannStrongWolfeMTAlphaE1WithLimits(x0 float64, limits PlassmannStrongWolfeMTAlphaE1Limits) PlassmannStrongWolfeMTAlphaE1Result {
-	out := plassmannStrongWolfeMTAlphaE1Minimize([1]float64{x0}, limits)
+	out := plassmannStrongWolfeMTAlphaE1Minimize([1]float64{x0}, limits, plassmannStrongWolfeMTAlphaE1Box{})
 	return PlassmannStrongWolfeMTAlphaE1Result{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func plassmannStrongWolfeMTAlphaE1Minimize(x0 [1]float64, lim PlassmannStrongWolfeMTAlphaE1Limits) plassmannStrongWolfeMTAlphaE1Outcome {
-	out := plassmannStrongWolfeMTAlphaE1Outcome{x: x0, status: PlassmannStrongWolfeMTAlphaE1OutOfEvaluations, gradient: math.NaN()}
+func plassmannStrongWolfeMTAlphaE1Minimize(x0 [1]float64, lim PlassmannStrongWolfeMTAlphaE1Limits, bounds plassmannStrongWolfeMTAlphaE1Box) plassmannStrongWolfeMTAlphaE1Outcome {
+	x := x0
+	plassmannStrongWolfeMTAlphaE1EnterBox(&x, &bounds)
+	out := plassmannStrongWolfeMTAlphaE1Outcome{x: x, status: PlassmannStrongWolfeMTAlphaE1OutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := Plassmann(x[0])
 	out.f, out.evaluations = fx, 1
 	if !plassmannStrongWolfeMTAlphaE1Finite(fx) || !plassmannStrongWolfeMTAlphaE1FiniteVec(&x) {
 		out.status = PlassmannStrongWolfeMTAlphaE1NonFiniteStart
 		return out
 	}
-	var diffs plassmannStrongWolfeMTAlphaE1Differences
+	diffs := plassmannStrongWolfeMTAlphaE1Differences{bounds: bounds}
 	calls, ok := plassmannStrongWolfeMTAlphaE1Calibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+plassmannStrongWolfeMTAlphaE1DerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [1]float64
-	plassmannStrongWolfeMTAlphaE1Derivative(&x, fx, &g, &diffs)
-	out.evaluations += plassmannStrongWolfeMTAlphaE1DerivativeCost
+	out.evaluations += plassmannStrongWolfeMTAlphaE1Derivative(&x, fx, &g, &diffs)
 
 	if !plassmannStrongWolfeMTAlphaE1FiniteVec(&g) {
 		out.status = PlassmannStrongWolfeMTAlphaE1NonFiniteGradient
@@ -211,7 +214,7 @@ func plassmannStrongWolfeMTAlphaE1Minimize(x0 [1]float64, lim PlassmannStrongWol
 		case !confirmed:
 			plassmannStrongWolfeMTAlphaE1GradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := plassmannStrongWolfeMTAlphaE1GradientMeasure(&g, &e, &x, fx)
+		measure, floor := plassmannStrongWolfeMTAlphaE1Stationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, plassmannStrongWolfeMTAlphaE1Larger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func plassmannStrongWolfeMTAlphaE1Minimize(x0 [1]float64, lim PlassmannStrongWol
 			if rises >= 8 {
 				return best.ending(PlassmannStrongWolfeMTAlphaE1Diverged, out.iterations, out.evaluations)
 			}
+			plassmannStrongWolfeMTAlphaE1CurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(PlassmannStrongWolfeMTAlphaE1OutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		plassmannStrongWolfeMTAlphaE1SearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := plassmannStrongWolfeMTAlphaE1Dot(&g, &d)
 		if !(now < 0) || !plassmannStrongWolfeMTAlphaE1FiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			plassmannStrongWolfeMTAlphaE1SearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = plassmannStrongWolfeMTAlphaE1Dot(&g, &d)
 		}
 		first := float64(plassmannStrongWolfeMTAlphaE1StepInitial)
@@ -267,7 +271,7 @@ func plassmannStrongWolfeMTAlphaE1Minimize(x0 [1]float64, lim PlassmannStrongWol
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := plassmannStrongWolfeMTAlphaE1TinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := plassmannStrongWolfeMTAlphaE1LineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := plassmannStrongWolfeMTAlphaE1LineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case plassmannStrongWolfeMTAlphaE1SearchOutOfBudget:
@@ -303,8 +307,7 @@ func plassmannStrongWolfeMTAlphaE1Minimize(x0 [1]float64, lim PlassmannStrongWol
 				}
 				return best.ending(PlassmannStrongWolfeMTAlphaE1OutOfEvaluations, out.iterations, out.evaluations)
 			}
-			plassmannStrongWolfeMTAlphaE1Derivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += plassmannStrongWolfeMTAlphaE1DerivativeCost
+			out.evaluations += plassmannStrongWolfeMTAlphaE1Derivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		plassmannStrongWolfeMTAlphaE1Difference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o plassmannStrongWolfeMTAlphaE1Outcome) ending(end PlassmannStrongWolfeMTA
 	return o
 }
 
+// plassmannStrongWolfeMTAlphaE1EnterBox: without bounds every start is inside.
+func plassmannStrongWolfeMTAlphaE1EnterBox(x *[1]float64, b *plassmannStrongWolfeMTAlphaE1Box) {}
+
 // plassmannStrongWolfeMTAlphaE1Finite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func plassmannStrongWolfeMTAlphaE1FiniteVec(x *[1]float64) bool {
 	return true
 }
 
-// plassmannStrongWolfeMTAlphaE1Differences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// plassmannStrongWolfeMTAlphaE1Differences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type plassmannStrongWolfeMTAlphaE1Differences struct {
 	ratio     [1]float64
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see plassmannStrongWolfeMTAlphaE1RoundingFloor)
+	bounds    plassmannStrongWolfeMTAlphaE1Box
 }
 
 // plassmannStrongWolfeMTAlphaE1Calibrate: an analytic gradient needs no intervals.
@@ -384,8 +392,9 @@ func plassmannStrongWolfeMTAlphaE1Calibrate(x *[1]float64, fx float64, diffs *pl
 }
 
 // plassmannStrongWolfeMTAlphaE1Derivative calls the user's gradient; it costs no objective calls.
-func plassmannStrongWolfeMTAlphaE1Derivative(x *[1]float64, fx float64, g *[1]float64, diffs *plassmannStrongWolfeMTAlphaE1Differences) {
+func plassmannStrongWolfeMTAlphaE1Derivative(x *[1]float64, fx float64, g *[1]float64, diffs *plassmannStrongWolfeMTAlphaE1Differences) int {
 	g[0] = PlassmannDeriv(x[0])
+	return 0
 }
 
 // plassmannStrongWolfeMTAlphaE1Direction is steepest descent, d = −∇f(x): the direction of
@@ -401,8 +410,22 @@ func (s *plassmannStrongWolfeMTAlphaE1Direction) compute(g, d *[1]float64) {
 
 func (s *plassmannStrongWolfeMTAlphaE1Direction) update(step, change *[1]float64) {}
 
+// firstTrial is the scaled trial (plassmannStrongWolfeMTAlphaE1ScaledTrial), grown at most by
+// 2^(plassmannStrongWolfeMTAlphaE1StepTrials/2) over the previous step t. Steepest descent is the one
+// direction paired with backtracking that scales its first trial, and
+// backtracking can only shrink: after a step that nearly solved the
+// problem the slope collapses, the ratio can exceed the range its trials
+// halve through, and the search would end with no acceptable step. The
+// cap keeps at least half the trials below the previous step (a safeguard
+// of our own; cg, whose ratios can legitimately be that large on badly
+// scaled problems, always pairs with a Wolfe search, which expands and
+// zooms instead).
 func (s *plassmannStrongWolfeMTAlphaE1Direction) firstTrial(t, slope, now float64) float64 {
-	return plassmannStrongWolfeMTAlphaE1ScaledTrial(t, slope, now)
+	next := plassmannStrongWolfeMTAlphaE1ScaledTrial(t, slope, now)
+	if reach := t * math.Ldexp(1, plassmannStrongWolfeMTAlphaE1StepTrials/2); next > reach {
+		return reach
+	}
+	return next
 }
 
 // plassmannStrongWolfeMTAlphaE1Negate sets out = −x.
@@ -471,13 +494,13 @@ func plassmannStrongWolfeMTAlphaE1ConfirmGradient(x *[1]float64, fx float64, g, 
 		wide.ratio[i] *= 2
 	}
 	var doubled [1]float64
-	plassmannStrongWolfeMTAlphaE1Derivative(x, fx, g, diffs)
-	plassmannStrongWolfeMTAlphaE1Derivative(x, fx, &doubled, &wide)
+	calls += plassmannStrongWolfeMTAlphaE1Derivative(x, fx, g, diffs)
+	calls += plassmannStrongWolfeMTAlphaE1Derivative(x, fx, &doubled, &wide)
 	plassmannStrongWolfeMTAlphaE1GradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * plassmannStrongWolfeMTAlphaE1Abs(g[i]-doubled[i])
 	}
-	return calls + 2*plassmannStrongWolfeMTAlphaE1DerivativeCost, true
+	return calls, true
 }
 
 // plassmannStrongWolfeMTAlphaE1GradientError: the analytic gradient is taken as exact; its error is
@@ -519,18 +542,60 @@ func plassmannStrongWolfeMTAlphaE1DiagonalCurvature(x, g *[1]float64, diffs *pla
 	var moved [1]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := plassmannStrongWolfeMTAlphaE1ProbeStep(xi, plassmannStrongWolfeMTAlphaE1SquareRoot(plassmannStrongWolfeMTAlphaE1UnitRoundoff)*plassmannStrongWolfeMTAlphaE1Larger(1, plassmannStrongWolfeMTAlphaE1Abs(xi)))
-		probe[i] = up
-		moved[0] = PlassmannDeriv(probe[0])
-		h[i] = plassmannStrongWolfeMTAlphaE1Abs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := plassmannStrongWolfeMTAlphaE1CoordinateRange(i, diffs)
+		up, delta := plassmannStrongWolfeMTAlphaE1ProbeStep(xi, plassmannStrongWolfeMTAlphaE1OneSide(xi, plassmannStrongWolfeMTAlphaE1SquareRoot(plassmannStrongWolfeMTAlphaE1UnitRoundoff)*plassmannStrongWolfeMTAlphaE1Larger(1, plassmannStrongWolfeMTAlphaE1Abs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			moved[0] = PlassmannDeriv(probe[0])
+			h[i] = plassmannStrongWolfeMTAlphaE1Abs(moved[i]-g[i]) / plassmannStrongWolfeMTAlphaE1Abs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// plassmannStrongWolfeMTAlphaE1ProbeStep returns x_i moved by h, and the step actually representable.
-func plassmannStrongWolfeMTAlphaE1ProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// plassmannStrongWolfeMTAlphaE1CoordinateRange: without bounds any probe is allowed.
+func plassmannStrongWolfeMTAlphaE1CoordinateRange(i int, diffs *plassmannStrongWolfeMTAlphaE1Differences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// plassmannStrongWolfeMTAlphaE1ProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func plassmannStrongWolfeMTAlphaE1ProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := plassmannStrongWolfeMTAlphaE1ClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// plassmannStrongWolfeMTAlphaE1ClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func plassmannStrongWolfeMTAlphaE1ClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// plassmannStrongWolfeMTAlphaE1OneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func plassmannStrongWolfeMTAlphaE1OneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // plassmannStrongWolfeMTAlphaE1SquareRoot returns √v.
@@ -546,6 +611,11 @@ func plassmannStrongWolfeMTAlphaE1Larger(a, b float64) float64 {
 		return a
 	}
 	return b
+}
+
+// plassmannStrongWolfeMTAlphaE1Stationarity measures the gradient itself.
+func plassmannStrongWolfeMTAlphaE1Stationarity(g, e, x *[1]float64, fx float64, b *plassmannStrongWolfeMTAlphaE1Box) (measure, floor float64) {
+	return plassmannStrongWolfeMTAlphaE1GradientMeasure(g, e, x, fx)
 }
 
 // plassmannStrongWolfeMTAlphaE1GradientMeasure is the scale-free measure
@@ -579,6 +649,15 @@ func plassmannStrongWolfeMTAlphaE1StepWithin(s, x *[1]float64, tol float64) bool
 		}
 	}
 	return true
+}
+
+// plassmannStrongWolfeMTAlphaE1CurvaturePair: without bounds the pair is used as it is.
+func plassmannStrongWolfeMTAlphaE1CurvaturePair(s, y, x *[1]float64, b *plassmannStrongWolfeMTAlphaE1Box) {
+}
+
+// plassmannStrongWolfeMTAlphaE1SearchDirection is the direction's own.
+func plassmannStrongWolfeMTAlphaE1SearchDirection(dir *plassmannStrongWolfeMTAlphaE1Direction, x, g, d *[1]float64, b *plassmannStrongWolfeMTAlphaE1Box) {
+	dir.compute(g, d)
 }
 
 // plassmannStrongWolfeMTAlphaE1Dot returns aᵀb.
@@ -617,7 +696,10 @@ func plassmannStrongWolfeMTAlphaE1TinyStep(x, d *[1]float64, tol float64) float6
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (plassmannStrongWolfeMTAlphaE1StepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -626,13 +708,17 @@ func plassmannStrongWolfeMTAlphaE1TinyStep(x, d *[1]float64, tol float64) float6
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func plassmannStrongWolfeMTAlphaE1LineSearch(x *[1]float64, fx float64, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *plassmannStrongWolfeMTAlphaE1Differences) plassmannStrongWolfeMTAlphaE1LineResult {
+func plassmannStrongWolfeMTAlphaE1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *plassmannStrongWolfeMTAlphaE1Differences) plassmannStrongWolfeMTAlphaE1LineResult {
 	low := plassmannStrongWolfeMTAlphaE1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high plassmannStrongWolfeMTAlphaE1LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                             // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend plassmannStrongWolfeMTAlphaE1RiseTrend // of the trials failing sufficient decrease
+	var trend plassmannStrongWolfeMTAlphaE1RiseTrend                         // of the trials failing sufficient decrease
+	limit := plassmannStrongWolfeMTAlphaE1StepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < plassmannStrongWolfeMTAlphaE1StepTrials; trial++ {
 		if bracketed && plassmannStrongWolfeMTAlphaE1Abs(high.step-low.step) <= tiny {
@@ -642,12 +728,12 @@ func plassmannStrongWolfeMTAlphaE1LineSearch(x *[1]float64, fx float64, d *[1]fl
 			if low.step == 0 {
 				return plassmannStrongWolfeMTAlphaE1LineResult{calls: calls, rising: trend.contradicts(), end: plassmannStrongWolfeMTAlphaE1TinyOrExhausted(plassmannStrongWolfeMTAlphaE1Finite(high.value))}
 			}
-			return plassmannStrongWolfeMTAlphaE1AcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return plassmannStrongWolfeMTAlphaE1AcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return plassmannStrongWolfeMTAlphaE1LineResult{calls: calls, end: plassmannStrongWolfeMTAlphaE1SearchOutOfBudget}
 		}
-		plassmannStrongWolfeMTAlphaE1MoveTo(xt, x, t, d)
+		plassmannStrongWolfeMTAlphaE1TrialPoint(xt, x, t, d, &diffs.bounds)
 		current := plassmannStrongWolfeMTAlphaE1LinePoint{step: t, value: Plassmann(xt[0])}
 		calls++
 		previous := low
@@ -658,8 +744,7 @@ func plassmannStrongWolfeMTAlphaE1LineSearch(x *[1]float64, fx float64, d *[1]fl
 			if calls+plassmannStrongWolfeMTAlphaE1DerivativeCost > budget {
 				return plassmannStrongWolfeMTAlphaE1LineResult{calls: calls, end: plassmannStrongWolfeMTAlphaE1SearchOutOfBudget}
 			}
-			plassmannStrongWolfeMTAlphaE1Derivative(xt, current.value, gt, diffs)
-			calls += plassmannStrongWolfeMTAlphaE1DerivativeCost
+			calls += plassmannStrongWolfeMTAlphaE1Derivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = plassmannStrongWolfeMTAlphaE1Dot(gt, d), true
 			switch {
 			case !plassmannStrongWolfeMTAlphaE1Finite(current.slope):
@@ -670,18 +755,22 @@ func plassmannStrongWolfeMTAlphaE1LineSearch(x *[1]float64, fx float64, d *[1]fl
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return plassmannStrongWolfeMTAlphaE1LineResult{step: t, value: current.value, calls: calls, gradient: true, end: plassmannStrongWolfeMTAlphaE1SearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = plassmannStrongWolfeMTAlphaE1ZoomTrial(&low, &high)
-		} else {
-			t = plassmannStrongWolfeMTAlphaE1ExpandTrial(&previous, &current)
+		} else if t = plassmannStrongWolfeMTAlphaE1ExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return plassmannStrongWolfeMTAlphaE1AcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return plassmannStrongWolfeMTAlphaE1AcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return plassmannStrongWolfeMTAlphaE1LineResult{calls: calls, rising: trend.contradicts(), end: plassmannStrongWolfeMTAlphaE1SearchExhausted}
 }
@@ -768,6 +857,11 @@ func plassmannStrongWolfeMTAlphaE1FaithfulStep(x, xt, d *[1]float64, t float64) 
 	return true
 }
 
+// plassmannStrongWolfeMTAlphaE1StepCap: without bounds a step may be as long as the search wants.
+func plassmannStrongWolfeMTAlphaE1StepCap(x, d *[1]float64, tiny float64, b *plassmannStrongWolfeMTAlphaE1Box) float64 {
+	return math.Inf(1)
+}
+
 // plassmannStrongWolfeMTAlphaE1TinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -792,10 +886,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func plassmannStrongWolfeMTAlphaE1AcceptLow(x, d *[1]float64, low *plassmannStrongWolfeMTAlphaE1LinePoint, lowGradient *[1]float64, calls int, xt, gt *[1]float64) plassmannStrongWolfeMTAlphaE1LineResult {
-	plassmannStrongWolfeMTAlphaE1MoveTo(xt, x, low.step, d)
+func plassmannStrongWolfeMTAlphaE1AcceptLow(x, d *[1]float64, low *plassmannStrongWolfeMTAlphaE1LinePoint, lowGradient *[1]float64, calls int, xt, gt *[1]float64, diffs *plassmannStrongWolfeMTAlphaE1Differences) plassmannStrongWolfeMTAlphaE1LineResult {
+	plassmannStrongWolfeMTAlphaE1TrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return plassmannStrongWolfeMTAlphaE1LineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: plassmannStrongWolfeMTAlphaE1SearchAccepted}
+}
+
+// plassmannStrongWolfeMTAlphaE1TrialPoint is x + t·d.
+func plassmannStrongWolfeMTAlphaE1TrialPoint(out, x *[1]float64, t float64, d *[1]float64, b *plassmannStrongWolfeMTAlphaE1Box) {
+	plassmannStrongWolfeMTAlphaE1MoveTo(out, x, t, d)
 }
 
 // plassmannStrongWolfeMTAlphaE1MoveTo sets out = x + t·d.
@@ -850,21 +949,6 @@ func plassmannStrongWolfeMTAlphaE1ModelMinimizer(a, b *plassmannStrongWolfeMTAlp
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, plassmannStrongWolfeMTAlphaE1Finite(t)
-}
-
-// plassmannStrongWolfeMTAlphaE1ClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func plassmannStrongWolfeMTAlphaE1ClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // plassmannStrongWolfeMTAlphaE1ExpandTrial picks a larger trial after current met sufficient decrease

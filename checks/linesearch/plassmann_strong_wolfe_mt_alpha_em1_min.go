@@ -88,6 +88,9 @@ func PlassmannStrongWolfeMTAlphaEm1DefaultLimits() PlassmannStrongWolfeMTAlphaEm
 	}
 }
 
+// plassmannStrongWolfeMTAlphaEm1Box is empty: linesearch.toml sets no bounds on PlassmannStrongWolfeMTAlphaEm1.
+type plassmannStrongWolfeMTAlphaEm1Box struct{}
+
 // PlassmannStrongWolfeMTAlphaEm1 minimizes Plassmann from x0, as linesearch.toml specifies.
 //
 // Direction steepest: steepest descent, d = −∇f; no memory, linear convergence.
@@ -105,7 +108,7 @@ func PlassmannStrongWolfeMTAlphaEm1(x0 float64) PlassmannStrongWolfeMTAlphaEm1Re
 
 // PlassmannStrongWolfeMTAlphaEm1WithLimits is PlassmannStrongWolfeMTAlphaEm1 with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func PlassmannStrongWolfeMTAlphaEm1WithLimits(x0 float64, limits PlassmannStrongWolfeMTAlphaEm1Limits) PlassmannStrongWolfeMTAlphaEm1Result {
-	out := plassmannStrongWolfeMTAlphaEm1Minimize([1]float64{x0}, limits)
+	out := plassmannStrongWolfeMTAlphaEm1Minimize([1]float64{x0}, limits, plassmannStrongWolfeMTAlphaEm1Box{})
 	return PlassmannStrongWolfeMTAlphaEm1Result{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func plassmannStrongWolfeMTAlphaEm1Minimize(x0 [1]float64, lim PlassmannStrongWolfeMTAlphaEm1Limits) plassmannStrongWolfeMTAlphaEm1Outcome {
-	out := plassmannStrongWolfeMTAlphaEm1Outcome{x: x0, status: PlassmannStrongWolfeMTAlphaEm1OutOfEvaluations, gradient: math.NaN()}
+func plassmannStrongWolfeMTAlphaEm1Minimize(x0 [1]float64, lim PlassmannStrongWolfeMTAlphaEm1Limits, bounds plassmannStrongWolfeMTAlphaEm1Box) plassmannStrongWolfeMTAlphaEm1Outcome {
+	x := x0
+	plassmannStrongWolfeMTAlphaEm1EnterBox(&x, &bounds)
+	out := plassmannStrongWolfeMTAlphaEm1Outcome{x: x, status: PlassmannStrongWolfeMTAlphaEm1OutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := Plassmann(x[0])
 	out.f, out.evaluations = fx, 1
 	if !plassmannStrongWolfeMTAlphaEm1Finite(fx) || !plassmannStrongWolfeMTAlphaEm1FiniteVec(&x) {
 		out.status = PlassmannStrongWolfeMTAlphaEm1NonFiniteStart
 		return out
 	}
-	var diffs plassmannStrongWolfeMTAlphaEm1Differences
+	diffs := plassmannStrongWolfeMTAlphaEm1Differences{bounds: bounds}
 	calls, ok := plassmannStrongWolfeMTAlphaEm1Calibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+plassmannStrongWolfeMTAlphaEm1DerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [1]float64
-	plassmannStrongWolfeMTAlphaEm1Derivative(&x, fx, &g, &diffs)
-	out.evaluations += plassmannStrongWolfeMTAlphaEm1DerivativeCost
+	out.evaluations += plassmannStrongWolfeMTAlphaEm1Derivative(&x, fx, &g, &diffs)
 
 	if !plassmannStrongWolfeMTAlphaEm1FiniteVec(&g) {
 		out.status = PlassmannStrongWolfeMTAlphaEm1NonFiniteGradient
@@ -211,7 +214,7 @@ func plassmannStrongWolfeMTAlphaEm1Minimize(x0 [1]float64, lim PlassmannStrongWo
 		case !confirmed:
 			plassmannStrongWolfeMTAlphaEm1GradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := plassmannStrongWolfeMTAlphaEm1GradientMeasure(&g, &e, &x, fx)
+		measure, floor := plassmannStrongWolfeMTAlphaEm1Stationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, plassmannStrongWolfeMTAlphaEm1Larger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func plassmannStrongWolfeMTAlphaEm1Minimize(x0 [1]float64, lim PlassmannStrongWo
 			if rises >= 8 {
 				return best.ending(PlassmannStrongWolfeMTAlphaEm1Diverged, out.iterations, out.evaluations)
 			}
+			plassmannStrongWolfeMTAlphaEm1CurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(PlassmannStrongWolfeMTAlphaEm1OutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		plassmannStrongWolfeMTAlphaEm1SearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := plassmannStrongWolfeMTAlphaEm1Dot(&g, &d)
 		if !(now < 0) || !plassmannStrongWolfeMTAlphaEm1FiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			plassmannStrongWolfeMTAlphaEm1SearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = plassmannStrongWolfeMTAlphaEm1Dot(&g, &d)
 		}
 		first := float64(plassmannStrongWolfeMTAlphaEm1StepInitial)
@@ -267,7 +271,7 @@ func plassmannStrongWolfeMTAlphaEm1Minimize(x0 [1]float64, lim PlassmannStrongWo
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := plassmannStrongWolfeMTAlphaEm1TinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := plassmannStrongWolfeMTAlphaEm1LineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := plassmannStrongWolfeMTAlphaEm1LineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case plassmannStrongWolfeMTAlphaEm1SearchOutOfBudget:
@@ -303,8 +307,7 @@ func plassmannStrongWolfeMTAlphaEm1Minimize(x0 [1]float64, lim PlassmannStrongWo
 				}
 				return best.ending(PlassmannStrongWolfeMTAlphaEm1OutOfEvaluations, out.iterations, out.evaluations)
 			}
-			plassmannStrongWolfeMTAlphaEm1Derivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += plassmannStrongWolfeMTAlphaEm1DerivativeCost
+			out.evaluations += plassmannStrongWolfeMTAlphaEm1Derivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		plassmannStrongWolfeMTAlphaEm1Difference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o plassmannStrongWolfeMTAlphaEm1Outcome) ending(end PlassmannStrongWolfeMT
 	return o
 }
 
+// plassmannStrongWolfeMTAlphaEm1EnterBox: without bounds every start is inside.
+func plassmannStrongWolfeMTAlphaEm1EnterBox(x *[1]float64, b *plassmannStrongWolfeMTAlphaEm1Box) {}
+
 // plassmannStrongWolfeMTAlphaEm1Finite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func plassmannStrongWolfeMTAlphaEm1FiniteVec(x *[1]float64) bool {
 	return true
 }
 
-// plassmannStrongWolfeMTAlphaEm1Differences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// plassmannStrongWolfeMTAlphaEm1Differences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type plassmannStrongWolfeMTAlphaEm1Differences struct {
 	ratio     [1]float64
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see plassmannStrongWolfeMTAlphaEm1RoundingFloor)
+	bounds    plassmannStrongWolfeMTAlphaEm1Box
 }
 
 // plassmannStrongWolfeMTAlphaEm1Calibrate: an analytic gradient needs no intervals.
@@ -384,8 +392,9 @@ func plassmannStrongWolfeMTAlphaEm1Calibrate(x *[1]float64, fx float64, diffs *p
 }
 
 // plassmannStrongWolfeMTAlphaEm1Derivative calls the user's gradient; it costs no objective calls.
-func plassmannStrongWolfeMTAlphaEm1Derivative(x *[1]float64, fx float64, g *[1]float64, diffs *plassmannStrongWolfeMTAlphaEm1Differences) {
+func plassmannStrongWolfeMTAlphaEm1Derivative(x *[1]float64, fx float64, g *[1]float64, diffs *plassmannStrongWolfeMTAlphaEm1Differences) int {
 	g[0] = PlassmannDeriv(x[0])
+	return 0
 }
 
 // plassmannStrongWolfeMTAlphaEm1Direction is steepest descent, d = −∇f(x): the direction of
@@ -401,8 +410,22 @@ func (s *plassmannStrongWolfeMTAlphaEm1Direction) compute(g, d *[1]float64) {
 
 func (s *plassmannStrongWolfeMTAlphaEm1Direction) update(step, change *[1]float64) {}
 
+// firstTrial is the scaled trial (plassmannStrongWolfeMTAlphaEm1ScaledTrial), grown at most by
+// 2^(plassmannStrongWolfeMTAlphaEm1StepTrials/2) over the previous step t. Steepest descent is the one
+// direction paired with backtracking that scales its first trial, and
+// backtracking can only shrink: after a step that nearly solved the
+// problem the slope collapses, the ratio can exceed the range its trials
+// halve through, and the search would end with no acceptable step. The
+// cap keeps at least half the trials below the previous step (a safeguard
+// of our own; cg, whose ratios can legitimately be that large on badly
+// scaled problems, always pairs with a Wolfe search, which expands and
+// zooms instead).
 func (s *plassmannStrongWolfeMTAlphaEm1Direction) firstTrial(t, slope, now float64) float64 {
-	return plassmannStrongWolfeMTAlphaEm1ScaledTrial(t, slope, now)
+	next := plassmannStrongWolfeMTAlphaEm1ScaledTrial(t, slope, now)
+	if reach := t * math.Ldexp(1, plassmannStrongWolfeMTAlphaEm1StepTrials/2); next > reach {
+		return reach
+	}
+	return next
 }
 
 // plassmannStrongWolfeMTAlphaEm1Negate sets out = −x.
@@ -471,13 +494,13 @@ func plassmannStrongWolfeMTAlphaEm1ConfirmGradient(x *[1]float64, fx float64, g,
 		wide.ratio[i] *= 2
 	}
 	var doubled [1]float64
-	plassmannStrongWolfeMTAlphaEm1Derivative(x, fx, g, diffs)
-	plassmannStrongWolfeMTAlphaEm1Derivative(x, fx, &doubled, &wide)
+	calls += plassmannStrongWolfeMTAlphaEm1Derivative(x, fx, g, diffs)
+	calls += plassmannStrongWolfeMTAlphaEm1Derivative(x, fx, &doubled, &wide)
 	plassmannStrongWolfeMTAlphaEm1GradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * plassmannStrongWolfeMTAlphaEm1Abs(g[i]-doubled[i])
 	}
-	return calls + 2*plassmannStrongWolfeMTAlphaEm1DerivativeCost, true
+	return calls, true
 }
 
 // plassmannStrongWolfeMTAlphaEm1GradientError: the analytic gradient is taken as exact; its error is
@@ -519,18 +542,60 @@ func plassmannStrongWolfeMTAlphaEm1DiagonalCurvature(x, g *[1]float64, diffs *pl
 	var moved [1]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := plassmannStrongWolfeMTAlphaEm1ProbeStep(xi, plassmannStrongWolfeMTAlphaEm1SquareRoot(plassmannStrongWolfeMTAlphaEm1UnitRoundoff)*plassmannStrongWolfeMTAlphaEm1Larger(1, plassmannStrongWolfeMTAlphaEm1Abs(xi)))
-		probe[i] = up
-		moved[0] = PlassmannDeriv(probe[0])
-		h[i] = plassmannStrongWolfeMTAlphaEm1Abs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := plassmannStrongWolfeMTAlphaEm1CoordinateRange(i, diffs)
+		up, delta := plassmannStrongWolfeMTAlphaEm1ProbeStep(xi, plassmannStrongWolfeMTAlphaEm1OneSide(xi, plassmannStrongWolfeMTAlphaEm1SquareRoot(plassmannStrongWolfeMTAlphaEm1UnitRoundoff)*plassmannStrongWolfeMTAlphaEm1Larger(1, plassmannStrongWolfeMTAlphaEm1Abs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			moved[0] = PlassmannDeriv(probe[0])
+			h[i] = plassmannStrongWolfeMTAlphaEm1Abs(moved[i]-g[i]) / plassmannStrongWolfeMTAlphaEm1Abs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// plassmannStrongWolfeMTAlphaEm1ProbeStep returns x_i moved by h, and the step actually representable.
-func plassmannStrongWolfeMTAlphaEm1ProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// plassmannStrongWolfeMTAlphaEm1CoordinateRange: without bounds any probe is allowed.
+func plassmannStrongWolfeMTAlphaEm1CoordinateRange(i int, diffs *plassmannStrongWolfeMTAlphaEm1Differences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// plassmannStrongWolfeMTAlphaEm1ProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func plassmannStrongWolfeMTAlphaEm1ProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := plassmannStrongWolfeMTAlphaEm1ClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// plassmannStrongWolfeMTAlphaEm1ClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func plassmannStrongWolfeMTAlphaEm1ClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// plassmannStrongWolfeMTAlphaEm1OneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func plassmannStrongWolfeMTAlphaEm1OneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // plassmannStrongWolfeMTAlphaEm1SquareRoot returns √v.
@@ -546,6 +611,11 @@ func plassmannStrongWolfeMTAlphaEm1Larger(a, b float64) float64 {
 		return a
 	}
 	return b
+}
+
+// plassmannStrongWolfeMTAlphaEm1Stationarity measures the gradient itself.
+func plassmannStrongWolfeMTAlphaEm1Stationarity(g, e, x *[1]float64, fx float64, b *plassmannStrongWolfeMTAlphaEm1Box) (measure, floor float64) {
+	return plassmannStrongWolfeMTAlphaEm1GradientMeasure(g, e, x, fx)
 }
 
 // plassmannStrongWolfeMTAlphaEm1GradientMeasure is the scale-free measure
@@ -579,6 +649,15 @@ func plassmannStrongWolfeMTAlphaEm1StepWithin(s, x *[1]float64, tol float64) boo
 		}
 	}
 	return true
+}
+
+// plassmannStrongWolfeMTAlphaEm1CurvaturePair: without bounds the pair is used as it is.
+func plassmannStrongWolfeMTAlphaEm1CurvaturePair(s, y, x *[1]float64, b *plassmannStrongWolfeMTAlphaEm1Box) {
+}
+
+// plassmannStrongWolfeMTAlphaEm1SearchDirection is the direction's own.
+func plassmannStrongWolfeMTAlphaEm1SearchDirection(dir *plassmannStrongWolfeMTAlphaEm1Direction, x, g, d *[1]float64, b *plassmannStrongWolfeMTAlphaEm1Box) {
+	dir.compute(g, d)
 }
 
 // plassmannStrongWolfeMTAlphaEm1Dot returns aᵀb.
@@ -617,7 +696,10 @@ func plassmannStrongWolfeMTAlphaEm1TinyStep(x, d *[1]float64, tol float64) float
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (plassmannStrongWolfeMTAlphaEm1StepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -626,13 +708,17 @@ func plassmannStrongWolfeMTAlphaEm1TinyStep(x, d *[1]float64, tol float64) float
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func plassmannStrongWolfeMTAlphaEm1LineSearch(x *[1]float64, fx float64, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *plassmannStrongWolfeMTAlphaEm1Differences) plassmannStrongWolfeMTAlphaEm1LineResult {
+func plassmannStrongWolfeMTAlphaEm1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *plassmannStrongWolfeMTAlphaEm1Differences) plassmannStrongWolfeMTAlphaEm1LineResult {
 	low := plassmannStrongWolfeMTAlphaEm1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high plassmannStrongWolfeMTAlphaEm1LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                              // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend plassmannStrongWolfeMTAlphaEm1RiseTrend // of the trials failing sufficient decrease
+	var trend plassmannStrongWolfeMTAlphaEm1RiseTrend                         // of the trials failing sufficient decrease
+	limit := plassmannStrongWolfeMTAlphaEm1StepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < plassmannStrongWolfeMTAlphaEm1StepTrials; trial++ {
 		if bracketed && plassmannStrongWolfeMTAlphaEm1Abs(high.step-low.step) <= tiny {
@@ -642,12 +728,12 @@ func plassmannStrongWolfeMTAlphaEm1LineSearch(x *[1]float64, fx float64, d *[1]f
 			if low.step == 0 {
 				return plassmannStrongWolfeMTAlphaEm1LineResult{calls: calls, rising: trend.contradicts(), end: plassmannStrongWolfeMTAlphaEm1TinyOrExhausted(plassmannStrongWolfeMTAlphaEm1Finite(high.value))}
 			}
-			return plassmannStrongWolfeMTAlphaEm1AcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return plassmannStrongWolfeMTAlphaEm1AcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return plassmannStrongWolfeMTAlphaEm1LineResult{calls: calls, end: plassmannStrongWolfeMTAlphaEm1SearchOutOfBudget}
 		}
-		plassmannStrongWolfeMTAlphaEm1MoveTo(xt, x, t, d)
+		plassmannStrongWolfeMTAlphaEm1TrialPoint(xt, x, t, d, &diffs.bounds)
 		current := plassmannStrongWolfeMTAlphaEm1LinePoint{step: t, value: Plassmann(xt[0])}
 		calls++
 		previous := low
@@ -658,8 +744,7 @@ func plassmannStrongWolfeMTAlphaEm1LineSearch(x *[1]float64, fx float64, d *[1]f
 			if calls+plassmannStrongWolfeMTAlphaEm1DerivativeCost > budget {
 				return plassmannStrongWolfeMTAlphaEm1LineResult{calls: calls, end: plassmannStrongWolfeMTAlphaEm1SearchOutOfBudget}
 			}
-			plassmannStrongWolfeMTAlphaEm1Derivative(xt, current.value, gt, diffs)
-			calls += plassmannStrongWolfeMTAlphaEm1DerivativeCost
+			calls += plassmannStrongWolfeMTAlphaEm1Derivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = plassmannStrongWolfeMTAlphaEm1Dot(gt, d), true
 			switch {
 			case !plassmannStrongWolfeMTAlphaEm1Finite(current.slope):
@@ -670,18 +755,22 @@ func plassmannStrongWolfeMTAlphaEm1LineSearch(x *[1]float64, fx float64, d *[1]f
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return plassmannStrongWolfeMTAlphaEm1LineResult{step: t, value: current.value, calls: calls, gradient: true, end: plassmannStrongWolfeMTAlphaEm1SearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = plassmannStrongWolfeMTAlphaEm1ZoomTrial(&low, &high)
-		} else {
-			t = plassmannStrongWolfeMTAlphaEm1ExpandTrial(&previous, &current)
+		} else if t = plassmannStrongWolfeMTAlphaEm1ExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return plassmannStrongWolfeMTAlphaEm1AcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return plassmannStrongWolfeMTAlphaEm1AcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return plassmannStrongWolfeMTAlphaEm1LineResult{calls: calls, rising: trend.contradicts(), end: plassmannStrongWolfeMTAlphaEm1SearchExhausted}
 }
@@ -768,6 +857,11 @@ func plassmannStrongWolfeMTAlphaEm1FaithfulStep(x, xt, d *[1]float64, t float64)
 	return true
 }
 
+// plassmannStrongWolfeMTAlphaEm1StepCap: without bounds a step may be as long as the search wants.
+func plassmannStrongWolfeMTAlphaEm1StepCap(x, d *[1]float64, tiny float64, b *plassmannStrongWolfeMTAlphaEm1Box) float64 {
+	return math.Inf(1)
+}
+
 // plassmannStrongWolfeMTAlphaEm1TinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -792,10 +886,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func plassmannStrongWolfeMTAlphaEm1AcceptLow(x, d *[1]float64, low *plassmannStrongWolfeMTAlphaEm1LinePoint, lowGradient *[1]float64, calls int, xt, gt *[1]float64) plassmannStrongWolfeMTAlphaEm1LineResult {
-	plassmannStrongWolfeMTAlphaEm1MoveTo(xt, x, low.step, d)
+func plassmannStrongWolfeMTAlphaEm1AcceptLow(x, d *[1]float64, low *plassmannStrongWolfeMTAlphaEm1LinePoint, lowGradient *[1]float64, calls int, xt, gt *[1]float64, diffs *plassmannStrongWolfeMTAlphaEm1Differences) plassmannStrongWolfeMTAlphaEm1LineResult {
+	plassmannStrongWolfeMTAlphaEm1TrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return plassmannStrongWolfeMTAlphaEm1LineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: plassmannStrongWolfeMTAlphaEm1SearchAccepted}
+}
+
+// plassmannStrongWolfeMTAlphaEm1TrialPoint is x + t·d.
+func plassmannStrongWolfeMTAlphaEm1TrialPoint(out, x *[1]float64, t float64, d *[1]float64, b *plassmannStrongWolfeMTAlphaEm1Box) {
+	plassmannStrongWolfeMTAlphaEm1MoveTo(out, x, t, d)
 }
 
 // plassmannStrongWolfeMTAlphaEm1MoveTo sets out = x + t·d.
@@ -850,21 +949,6 @@ func plassmannStrongWolfeMTAlphaEm1ModelMinimizer(a, b *plassmannStrongWolfeMTAl
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, plassmannStrongWolfeMTAlphaEm1Finite(t)
-}
-
-// plassmannStrongWolfeMTAlphaEm1ClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func plassmannStrongWolfeMTAlphaEm1ClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // plassmannStrongWolfeMTAlphaEm1ExpandTrial picks a larger trial after current met sufficient decrease

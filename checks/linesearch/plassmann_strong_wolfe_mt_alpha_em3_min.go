@@ -88,6 +88,9 @@ func PlassmannStrongWolfeMTAlphaEm3DefaultLimits() PlassmannStrongWolfeMTAlphaEm
 	}
 }
 
+// plassmannStrongWolfeMTAlphaEm3Box is empty: linesearch.toml sets no bounds on PlassmannStrongWolfeMTAlphaEm3.
+type plassmannStrongWolfeMTAlphaEm3Box struct{}
+
 // PlassmannStrongWolfeMTAlphaEm3 minimizes Plassmann from x0, as linesearch.toml specifies.
 //
 // Direction steepest: steepest descent, d = −∇f; no memory, linear convergence.
@@ -105,7 +108,7 @@ func PlassmannStrongWolfeMTAlphaEm3(x0 float64) PlassmannStrongWolfeMTAlphaEm3Re
 
 // PlassmannStrongWolfeMTAlphaEm3WithLimits is PlassmannStrongWolfeMTAlphaEm3 with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func PlassmannStrongWolfeMTAlphaEm3WithLimits(x0 float64, limits PlassmannStrongWolfeMTAlphaEm3Limits) PlassmannStrongWolfeMTAlphaEm3Result {
-	out := plassmannStrongWolfeMTAlphaEm3Minimize([1]float64{x0}, limits)
+	out := plassmannStrongWolfeMTAlphaEm3Minimize([1]float64{x0}, limits, plassmannStrongWolfeMTAlphaEm3Box{})
 	return PlassmannStrongWolfeMTAlphaEm3Result{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func plassmannStrongWolfeMTAlphaEm3Minimize(x0 [1]float64, lim PlassmannStrongWolfeMTAlphaEm3Limits) plassmannStrongWolfeMTAlphaEm3Outcome {
-	out := plassmannStrongWolfeMTAlphaEm3Outcome{x: x0, status: PlassmannStrongWolfeMTAlphaEm3OutOfEvaluations, gradient: math.NaN()}
+func plassmannStrongWolfeMTAlphaEm3Minimize(x0 [1]float64, lim PlassmannStrongWolfeMTAlphaEm3Limits, bounds plassmannStrongWolfeMTAlphaEm3Box) plassmannStrongWolfeMTAlphaEm3Outcome {
+	x := x0
+	plassmannStrongWolfeMTAlphaEm3EnterBox(&x, &bounds)
+	out := plassmannStrongWolfeMTAlphaEm3Outcome{x: x, status: PlassmannStrongWolfeMTAlphaEm3OutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := Plassmann(x[0])
 	out.f, out.evaluations = fx, 1
 	if !plassmannStrongWolfeMTAlphaEm3Finite(fx) || !plassmannStrongWolfeMTAlphaEm3FiniteVec(&x) {
 		out.status = PlassmannStrongWolfeMTAlphaEm3NonFiniteStart
 		return out
 	}
-	var diffs plassmannStrongWolfeMTAlphaEm3Differences
+	diffs := plassmannStrongWolfeMTAlphaEm3Differences{bounds: bounds}
 	calls, ok := plassmannStrongWolfeMTAlphaEm3Calibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+plassmannStrongWolfeMTAlphaEm3DerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [1]float64
-	plassmannStrongWolfeMTAlphaEm3Derivative(&x, fx, &g, &diffs)
-	out.evaluations += plassmannStrongWolfeMTAlphaEm3DerivativeCost
+	out.evaluations += plassmannStrongWolfeMTAlphaEm3Derivative(&x, fx, &g, &diffs)
 
 	if !plassmannStrongWolfeMTAlphaEm3FiniteVec(&g) {
 		out.status = PlassmannStrongWolfeMTAlphaEm3NonFiniteGradient
@@ -211,7 +214,7 @@ func plassmannStrongWolfeMTAlphaEm3Minimize(x0 [1]float64, lim PlassmannStrongWo
 		case !confirmed:
 			plassmannStrongWolfeMTAlphaEm3GradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := plassmannStrongWolfeMTAlphaEm3GradientMeasure(&g, &e, &x, fx)
+		measure, floor := plassmannStrongWolfeMTAlphaEm3Stationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, plassmannStrongWolfeMTAlphaEm3Larger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func plassmannStrongWolfeMTAlphaEm3Minimize(x0 [1]float64, lim PlassmannStrongWo
 			if rises >= 8 {
 				return best.ending(PlassmannStrongWolfeMTAlphaEm3Diverged, out.iterations, out.evaluations)
 			}
+			plassmannStrongWolfeMTAlphaEm3CurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(PlassmannStrongWolfeMTAlphaEm3OutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		plassmannStrongWolfeMTAlphaEm3SearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := plassmannStrongWolfeMTAlphaEm3Dot(&g, &d)
 		if !(now < 0) || !plassmannStrongWolfeMTAlphaEm3FiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			plassmannStrongWolfeMTAlphaEm3SearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = plassmannStrongWolfeMTAlphaEm3Dot(&g, &d)
 		}
 		first := float64(plassmannStrongWolfeMTAlphaEm3StepInitial)
@@ -267,7 +271,7 @@ func plassmannStrongWolfeMTAlphaEm3Minimize(x0 [1]float64, lim PlassmannStrongWo
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := plassmannStrongWolfeMTAlphaEm3TinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := plassmannStrongWolfeMTAlphaEm3LineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := plassmannStrongWolfeMTAlphaEm3LineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case plassmannStrongWolfeMTAlphaEm3SearchOutOfBudget:
@@ -303,8 +307,7 @@ func plassmannStrongWolfeMTAlphaEm3Minimize(x0 [1]float64, lim PlassmannStrongWo
 				}
 				return best.ending(PlassmannStrongWolfeMTAlphaEm3OutOfEvaluations, out.iterations, out.evaluations)
 			}
-			plassmannStrongWolfeMTAlphaEm3Derivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += plassmannStrongWolfeMTAlphaEm3DerivativeCost
+			out.evaluations += plassmannStrongWolfeMTAlphaEm3Derivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		plassmannStrongWolfeMTAlphaEm3Difference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o plassmannStrongWolfeMTAlphaEm3Outcome) ending(end PlassmannStrongWolfeMT
 	return o
 }
 
+// plassmannStrongWolfeMTAlphaEm3EnterBox: without bounds every start is inside.
+func plassmannStrongWolfeMTAlphaEm3EnterBox(x *[1]float64, b *plassmannStrongWolfeMTAlphaEm3Box) {}
+
 // plassmannStrongWolfeMTAlphaEm3Finite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func plassmannStrongWolfeMTAlphaEm3FiniteVec(x *[1]float64) bool {
 	return true
 }
 
-// plassmannStrongWolfeMTAlphaEm3Differences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// plassmannStrongWolfeMTAlphaEm3Differences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type plassmannStrongWolfeMTAlphaEm3Differences struct {
 	ratio     [1]float64
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see plassmannStrongWolfeMTAlphaEm3RoundingFloor)
+	bounds    plassmannStrongWolfeMTAlphaEm3Box
 }
 
 // plassmannStrongWolfeMTAlphaEm3Calibrate: an analytic gradient needs no intervals.
@@ -384,8 +392,9 @@ func plassmannStrongWolfeMTAlphaEm3Calibrate(x *[1]float64, fx float64, diffs *p
 }
 
 // plassmannStrongWolfeMTAlphaEm3Derivative calls the user's gradient; it costs no objective calls.
-func plassmannStrongWolfeMTAlphaEm3Derivative(x *[1]float64, fx float64, g *[1]float64, diffs *plassmannStrongWolfeMTAlphaEm3Differences) {
+func plassmannStrongWolfeMTAlphaEm3Derivative(x *[1]float64, fx float64, g *[1]float64, diffs *plassmannStrongWolfeMTAlphaEm3Differences) int {
 	g[0] = PlassmannDeriv(x[0])
+	return 0
 }
 
 // plassmannStrongWolfeMTAlphaEm3Direction is steepest descent, d = −∇f(x): the direction of
@@ -401,8 +410,22 @@ func (s *plassmannStrongWolfeMTAlphaEm3Direction) compute(g, d *[1]float64) {
 
 func (s *plassmannStrongWolfeMTAlphaEm3Direction) update(step, change *[1]float64) {}
 
+// firstTrial is the scaled trial (plassmannStrongWolfeMTAlphaEm3ScaledTrial), grown at most by
+// 2^(plassmannStrongWolfeMTAlphaEm3StepTrials/2) over the previous step t. Steepest descent is the one
+// direction paired with backtracking that scales its first trial, and
+// backtracking can only shrink: after a step that nearly solved the
+// problem the slope collapses, the ratio can exceed the range its trials
+// halve through, and the search would end with no acceptable step. The
+// cap keeps at least half the trials below the previous step (a safeguard
+// of our own; cg, whose ratios can legitimately be that large on badly
+// scaled problems, always pairs with a Wolfe search, which expands and
+// zooms instead).
 func (s *plassmannStrongWolfeMTAlphaEm3Direction) firstTrial(t, slope, now float64) float64 {
-	return plassmannStrongWolfeMTAlphaEm3ScaledTrial(t, slope, now)
+	next := plassmannStrongWolfeMTAlphaEm3ScaledTrial(t, slope, now)
+	if reach := t * math.Ldexp(1, plassmannStrongWolfeMTAlphaEm3StepTrials/2); next > reach {
+		return reach
+	}
+	return next
 }
 
 // plassmannStrongWolfeMTAlphaEm3Negate sets out = −x.
@@ -471,13 +494,13 @@ func plassmannStrongWolfeMTAlphaEm3ConfirmGradient(x *[1]float64, fx float64, g,
 		wide.ratio[i] *= 2
 	}
 	var doubled [1]float64
-	plassmannStrongWolfeMTAlphaEm3Derivative(x, fx, g, diffs)
-	plassmannStrongWolfeMTAlphaEm3Derivative(x, fx, &doubled, &wide)
+	calls += plassmannStrongWolfeMTAlphaEm3Derivative(x, fx, g, diffs)
+	calls += plassmannStrongWolfeMTAlphaEm3Derivative(x, fx, &doubled, &wide)
 	plassmannStrongWolfeMTAlphaEm3GradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * plassmannStrongWolfeMTAlphaEm3Abs(g[i]-doubled[i])
 	}
-	return calls + 2*plassmannStrongWolfeMTAlphaEm3DerivativeCost, true
+	return calls, true
 }
 
 // plassmannStrongWolfeMTAlphaEm3GradientError: the analytic gradient is taken as exact; its error is
@@ -519,18 +542,60 @@ func plassmannStrongWolfeMTAlphaEm3DiagonalCurvature(x, g *[1]float64, diffs *pl
 	var moved [1]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := plassmannStrongWolfeMTAlphaEm3ProbeStep(xi, plassmannStrongWolfeMTAlphaEm3SquareRoot(plassmannStrongWolfeMTAlphaEm3UnitRoundoff)*plassmannStrongWolfeMTAlphaEm3Larger(1, plassmannStrongWolfeMTAlphaEm3Abs(xi)))
-		probe[i] = up
-		moved[0] = PlassmannDeriv(probe[0])
-		h[i] = plassmannStrongWolfeMTAlphaEm3Abs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := plassmannStrongWolfeMTAlphaEm3CoordinateRange(i, diffs)
+		up, delta := plassmannStrongWolfeMTAlphaEm3ProbeStep(xi, plassmannStrongWolfeMTAlphaEm3OneSide(xi, plassmannStrongWolfeMTAlphaEm3SquareRoot(plassmannStrongWolfeMTAlphaEm3UnitRoundoff)*plassmannStrongWolfeMTAlphaEm3Larger(1, plassmannStrongWolfeMTAlphaEm3Abs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			moved[0] = PlassmannDeriv(probe[0])
+			h[i] = plassmannStrongWolfeMTAlphaEm3Abs(moved[i]-g[i]) / plassmannStrongWolfeMTAlphaEm3Abs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// plassmannStrongWolfeMTAlphaEm3ProbeStep returns x_i moved by h, and the step actually representable.
-func plassmannStrongWolfeMTAlphaEm3ProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// plassmannStrongWolfeMTAlphaEm3CoordinateRange: without bounds any probe is allowed.
+func plassmannStrongWolfeMTAlphaEm3CoordinateRange(i int, diffs *plassmannStrongWolfeMTAlphaEm3Differences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// plassmannStrongWolfeMTAlphaEm3ProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func plassmannStrongWolfeMTAlphaEm3ProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := plassmannStrongWolfeMTAlphaEm3ClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// plassmannStrongWolfeMTAlphaEm3ClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func plassmannStrongWolfeMTAlphaEm3ClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// plassmannStrongWolfeMTAlphaEm3OneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func plassmannStrongWolfeMTAlphaEm3OneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // plassmannStrongWolfeMTAlphaEm3SquareRoot returns √v.
@@ -546,6 +611,11 @@ func plassmannStrongWolfeMTAlphaEm3Larger(a, b float64) float64 {
 		return a
 	}
 	return b
+}
+
+// plassmannStrongWolfeMTAlphaEm3Stationarity measures the gradient itself.
+func plassmannStrongWolfeMTAlphaEm3Stationarity(g, e, x *[1]float64, fx float64, b *plassmannStrongWolfeMTAlphaEm3Box) (measure, floor float64) {
+	return plassmannStrongWolfeMTAlphaEm3GradientMeasure(g, e, x, fx)
 }
 
 // plassmannStrongWolfeMTAlphaEm3GradientMeasure is the scale-free measure
@@ -579,6 +649,15 @@ func plassmannStrongWolfeMTAlphaEm3StepWithin(s, x *[1]float64, tol float64) boo
 		}
 	}
 	return true
+}
+
+// plassmannStrongWolfeMTAlphaEm3CurvaturePair: without bounds the pair is used as it is.
+func plassmannStrongWolfeMTAlphaEm3CurvaturePair(s, y, x *[1]float64, b *plassmannStrongWolfeMTAlphaEm3Box) {
+}
+
+// plassmannStrongWolfeMTAlphaEm3SearchDirection is the direction's own.
+func plassmannStrongWolfeMTAlphaEm3SearchDirection(dir *plassmannStrongWolfeMTAlphaEm3Direction, x, g, d *[1]float64, b *plassmannStrongWolfeMTAlphaEm3Box) {
+	dir.compute(g, d)
 }
 
 // plassmannStrongWolfeMTAlphaEm3Dot returns aᵀb.
@@ -617,7 +696,10 @@ func plassmannStrongWolfeMTAlphaEm3TinyStep(x, d *[1]float64, tol float64) float
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (plassmannStrongWolfeMTAlphaEm3StepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -626,13 +708,17 @@ func plassmannStrongWolfeMTAlphaEm3TinyStep(x, d *[1]float64, tol float64) float
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func plassmannStrongWolfeMTAlphaEm3LineSearch(x *[1]float64, fx float64, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *plassmannStrongWolfeMTAlphaEm3Differences) plassmannStrongWolfeMTAlphaEm3LineResult {
+func plassmannStrongWolfeMTAlphaEm3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *plassmannStrongWolfeMTAlphaEm3Differences) plassmannStrongWolfeMTAlphaEm3LineResult {
 	low := plassmannStrongWolfeMTAlphaEm3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high plassmannStrongWolfeMTAlphaEm3LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                              // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend plassmannStrongWolfeMTAlphaEm3RiseTrend // of the trials failing sufficient decrease
+	var trend plassmannStrongWolfeMTAlphaEm3RiseTrend                         // of the trials failing sufficient decrease
+	limit := plassmannStrongWolfeMTAlphaEm3StepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < plassmannStrongWolfeMTAlphaEm3StepTrials; trial++ {
 		if bracketed && plassmannStrongWolfeMTAlphaEm3Abs(high.step-low.step) <= tiny {
@@ -642,12 +728,12 @@ func plassmannStrongWolfeMTAlphaEm3LineSearch(x *[1]float64, fx float64, d *[1]f
 			if low.step == 0 {
 				return plassmannStrongWolfeMTAlphaEm3LineResult{calls: calls, rising: trend.contradicts(), end: plassmannStrongWolfeMTAlphaEm3TinyOrExhausted(plassmannStrongWolfeMTAlphaEm3Finite(high.value))}
 			}
-			return plassmannStrongWolfeMTAlphaEm3AcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return plassmannStrongWolfeMTAlphaEm3AcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return plassmannStrongWolfeMTAlphaEm3LineResult{calls: calls, end: plassmannStrongWolfeMTAlphaEm3SearchOutOfBudget}
 		}
-		plassmannStrongWolfeMTAlphaEm3MoveTo(xt, x, t, d)
+		plassmannStrongWolfeMTAlphaEm3TrialPoint(xt, x, t, d, &diffs.bounds)
 		current := plassmannStrongWolfeMTAlphaEm3LinePoint{step: t, value: Plassmann(xt[0])}
 		calls++
 		previous := low
@@ -658,8 +744,7 @@ func plassmannStrongWolfeMTAlphaEm3LineSearch(x *[1]float64, fx float64, d *[1]f
 			if calls+plassmannStrongWolfeMTAlphaEm3DerivativeCost > budget {
 				return plassmannStrongWolfeMTAlphaEm3LineResult{calls: calls, end: plassmannStrongWolfeMTAlphaEm3SearchOutOfBudget}
 			}
-			plassmannStrongWolfeMTAlphaEm3Derivative(xt, current.value, gt, diffs)
-			calls += plassmannStrongWolfeMTAlphaEm3DerivativeCost
+			calls += plassmannStrongWolfeMTAlphaEm3Derivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = plassmannStrongWolfeMTAlphaEm3Dot(gt, d), true
 			switch {
 			case !plassmannStrongWolfeMTAlphaEm3Finite(current.slope):
@@ -670,18 +755,22 @@ func plassmannStrongWolfeMTAlphaEm3LineSearch(x *[1]float64, fx float64, d *[1]f
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return plassmannStrongWolfeMTAlphaEm3LineResult{step: t, value: current.value, calls: calls, gradient: true, end: plassmannStrongWolfeMTAlphaEm3SearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = plassmannStrongWolfeMTAlphaEm3ZoomTrial(&low, &high)
-		} else {
-			t = plassmannStrongWolfeMTAlphaEm3ExpandTrial(&previous, &current)
+		} else if t = plassmannStrongWolfeMTAlphaEm3ExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return plassmannStrongWolfeMTAlphaEm3AcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return plassmannStrongWolfeMTAlphaEm3AcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return plassmannStrongWolfeMTAlphaEm3LineResult{calls: calls, rising: trend.contradicts(), end: plassmannStrongWolfeMTAlphaEm3SearchExhausted}
 }
@@ -768,6 +857,11 @@ func plassmannStrongWolfeMTAlphaEm3FaithfulStep(x, xt, d *[1]float64, t float64)
 	return true
 }
 
+// plassmannStrongWolfeMTAlphaEm3StepCap: without bounds a step may be as long as the search wants.
+func plassmannStrongWolfeMTAlphaEm3StepCap(x, d *[1]float64, tiny float64, b *plassmannStrongWolfeMTAlphaEm3Box) float64 {
+	return math.Inf(1)
+}
+
 // plassmannStrongWolfeMTAlphaEm3TinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -792,10 +886,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func plassmannStrongWolfeMTAlphaEm3AcceptLow(x, d *[1]float64, low *plassmannStrongWolfeMTAlphaEm3LinePoint, lowGradient *[1]float64, calls int, xt, gt *[1]float64) plassmannStrongWolfeMTAlphaEm3LineResult {
-	plassmannStrongWolfeMTAlphaEm3MoveTo(xt, x, low.step, d)
+func plassmannStrongWolfeMTAlphaEm3AcceptLow(x, d *[1]float64, low *plassmannStrongWolfeMTAlphaEm3LinePoint, lowGradient *[1]float64, calls int, xt, gt *[1]float64, diffs *plassmannStrongWolfeMTAlphaEm3Differences) plassmannStrongWolfeMTAlphaEm3LineResult {
+	plassmannStrongWolfeMTAlphaEm3TrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return plassmannStrongWolfeMTAlphaEm3LineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: plassmannStrongWolfeMTAlphaEm3SearchAccepted}
+}
+
+// plassmannStrongWolfeMTAlphaEm3TrialPoint is x + t·d.
+func plassmannStrongWolfeMTAlphaEm3TrialPoint(out, x *[1]float64, t float64, d *[1]float64, b *plassmannStrongWolfeMTAlphaEm3Box) {
+	plassmannStrongWolfeMTAlphaEm3MoveTo(out, x, t, d)
 }
 
 // plassmannStrongWolfeMTAlphaEm3MoveTo sets out = x + t·d.
@@ -850,21 +949,6 @@ func plassmannStrongWolfeMTAlphaEm3ModelMinimizer(a, b *plassmannStrongWolfeMTAl
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, plassmannStrongWolfeMTAlphaEm3Finite(t)
-}
-
-// plassmannStrongWolfeMTAlphaEm3ClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func plassmannStrongWolfeMTAlphaEm3ClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // plassmannStrongWolfeMTAlphaEm3ExpandTrial picks a larger trial after current met sufficient decrease

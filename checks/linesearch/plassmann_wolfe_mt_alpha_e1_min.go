@@ -88,6 +88,9 @@ func PlassmannWolfeMTAlphaE1DefaultLimits() PlassmannWolfeMTAlphaE1Limits {
 	}
 }
 
+// plassmannWolfeMTAlphaE1Box is empty: linesearch.toml sets no bounds on PlassmannWolfeMTAlphaE1.
+type plassmannWolfeMTAlphaE1Box struct{}
+
 // PlassmannWolfeMTAlphaE1 minimizes Plassmann from x0, as linesearch.toml specifies.
 //
 // Direction steepest: steepest descent, d = −∇f; no memory, linear convergence.
@@ -105,7 +108,7 @@ func PlassmannWolfeMTAlphaE1(x0 float64) PlassmannWolfeMTAlphaE1Result {
 
 // PlassmannWolfeMTAlphaE1WithLimits is PlassmannWolfeMTAlphaE1 with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func PlassmannWolfeMTAlphaE1WithLimits(x0 float64, limits PlassmannWolfeMTAlphaE1Limits) PlassmannWolfeMTAlphaE1Result {
-	out := plassmannWolfeMTAlphaE1Minimize([1]float64{x0}, limits)
+	out := plassmannWolfeMTAlphaE1Minimize([1]float64{x0}, limits, plassmannWolfeMTAlphaE1Box{})
 	return PlassmannWolfeMTAlphaE1Result{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func plassmannWolfeMTAlphaE1Minimize(x0 [1]float64, lim PlassmannWolfeMTAlphaE1Limits) plassmannWolfeMTAlphaE1Outcome {
-	out := plassmannWolfeMTAlphaE1Outcome{x: x0, status: PlassmannWolfeMTAlphaE1OutOfEvaluations, gradient: math.NaN()}
+func plassmannWolfeMTAlphaE1Minimize(x0 [1]float64, lim PlassmannWolfeMTAlphaE1Limits, bounds plassmannWolfeMTAlphaE1Box) plassmannWolfeMTAlphaE1Outcome {
+	x := x0
+	plassmannWolfeMTAlphaE1EnterBox(&x, &bounds)
+	out := plassmannWolfeMTAlphaE1Outcome{x: x, status: PlassmannWolfeMTAlphaE1OutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := Plassmann(x[0])
 	out.f, out.evaluations = fx, 1
 	if !plassmannWolfeMTAlphaE1Finite(fx) || !plassmannWolfeMTAlphaE1FiniteVec(&x) {
 		out.status = PlassmannWolfeMTAlphaE1NonFiniteStart
 		return out
 	}
-	var diffs plassmannWolfeMTAlphaE1Differences
+	diffs := plassmannWolfeMTAlphaE1Differences{bounds: bounds}
 	calls, ok := plassmannWolfeMTAlphaE1Calibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+plassmannWolfeMTAlphaE1DerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [1]float64
-	plassmannWolfeMTAlphaE1Derivative(&x, fx, &g, &diffs)
-	out.evaluations += plassmannWolfeMTAlphaE1DerivativeCost
+	out.evaluations += plassmannWolfeMTAlphaE1Derivative(&x, fx, &g, &diffs)
 
 	if !plassmannWolfeMTAlphaE1FiniteVec(&g) {
 		out.status = PlassmannWolfeMTAlphaE1NonFiniteGradient
@@ -211,7 +214,7 @@ func plassmannWolfeMTAlphaE1Minimize(x0 [1]float64, lim PlassmannWolfeMTAlphaE1L
 		case !confirmed:
 			plassmannWolfeMTAlphaE1GradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := plassmannWolfeMTAlphaE1GradientMeasure(&g, &e, &x, fx)
+		measure, floor := plassmannWolfeMTAlphaE1Stationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, plassmannWolfeMTAlphaE1Larger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func plassmannWolfeMTAlphaE1Minimize(x0 [1]float64, lim PlassmannWolfeMTAlphaE1L
 			if rises >= 8 {
 				return best.ending(PlassmannWolfeMTAlphaE1Diverged, out.iterations, out.evaluations)
 			}
+			plassmannWolfeMTAlphaE1CurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(PlassmannWolfeMTAlphaE1OutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		plassmannWolfeMTAlphaE1SearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := plassmannWolfeMTAlphaE1Dot(&g, &d)
 		if !(now < 0) || !plassmannWolfeMTAlphaE1FiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			plassmannWolfeMTAlphaE1SearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = plassmannWolfeMTAlphaE1Dot(&g, &d)
 		}
 		first := float64(plassmannWolfeMTAlphaE1StepInitial)
@@ -267,7 +271,7 @@ func plassmannWolfeMTAlphaE1Minimize(x0 [1]float64, lim PlassmannWolfeMTAlphaE1L
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := plassmannWolfeMTAlphaE1TinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := plassmannWolfeMTAlphaE1LineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := plassmannWolfeMTAlphaE1LineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case plassmannWolfeMTAlphaE1SearchOutOfBudget:
@@ -303,8 +307,7 @@ func plassmannWolfeMTAlphaE1Minimize(x0 [1]float64, lim PlassmannWolfeMTAlphaE1L
 				}
 				return best.ending(PlassmannWolfeMTAlphaE1OutOfEvaluations, out.iterations, out.evaluations)
 			}
-			plassmannWolfeMTAlphaE1Derivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += plassmannWolfeMTAlphaE1DerivativeCost
+			out.evaluations += plassmannWolfeMTAlphaE1Derivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		plassmannWolfeMTAlphaE1Difference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o plassmannWolfeMTAlphaE1Outcome) ending(end PlassmannWolfeMTAlphaE1Status
 	return o
 }
 
+// plassmannWolfeMTAlphaE1EnterBox: without bounds every start is inside.
+func plassmannWolfeMTAlphaE1EnterBox(x *[1]float64, b *plassmannWolfeMTAlphaE1Box) {}
+
 // plassmannWolfeMTAlphaE1Finite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func plassmannWolfeMTAlphaE1FiniteVec(x *[1]float64) bool {
 	return true
 }
 
-// plassmannWolfeMTAlphaE1Differences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// plassmannWolfeMTAlphaE1Differences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type plassmannWolfeMTAlphaE1Differences struct {
 	ratio     [1]float64
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see plassmannWolfeMTAlphaE1RoundingFloor)
+	bounds    plassmannWolfeMTAlphaE1Box
 }
 
 // plassmannWolfeMTAlphaE1Calibrate: an analytic gradient needs no intervals.
@@ -384,8 +392,9 @@ func plassmannWolfeMTAlphaE1Calibrate(x *[1]float64, fx float64, diffs *plassman
 }
 
 // plassmannWolfeMTAlphaE1Derivative calls the user's gradient; it costs no objective calls.
-func plassmannWolfeMTAlphaE1Derivative(x *[1]float64, fx float64, g *[1]float64, diffs *plassmannWolfeMTAlphaE1Differences) {
+func plassmannWolfeMTAlphaE1Derivative(x *[1]float64, fx float64, g *[1]float64, diffs *plassmannWolfeMTAlphaE1Differences) int {
 	g[0] = PlassmannDeriv(x[0])
+	return 0
 }
 
 // plassmannWolfeMTAlphaE1Direction is steepest descent, d = −∇f(x): the direction of
@@ -401,8 +410,22 @@ func (s *plassmannWolfeMTAlphaE1Direction) compute(g, d *[1]float64) {
 
 func (s *plassmannWolfeMTAlphaE1Direction) update(step, change *[1]float64) {}
 
+// firstTrial is the scaled trial (plassmannWolfeMTAlphaE1ScaledTrial), grown at most by
+// 2^(plassmannWolfeMTAlphaE1StepTrials/2) over the previous step t. Steepest descent is the one
+// direction paired with backtracking that scales its first trial, and
+// backtracking can only shrink: after a step that nearly solved the
+// problem the slope collapses, the ratio can exceed the range its trials
+// halve through, and the search would end with no acceptable step. The
+// cap keeps at least half the trials below the previous step (a safeguard
+// of our own; cg, whose ratios can legitimately be that large on badly
+// scaled problems, always pairs with a Wolfe search, which expands and
+// zooms instead).
 func (s *plassmannWolfeMTAlphaE1Direction) firstTrial(t, slope, now float64) float64 {
-	return plassmannWolfeMTAlphaE1ScaledTrial(t, slope, now)
+	next := plassmannWolfeMTAlphaE1ScaledTrial(t, slope, now)
+	if reach := t * math.Ldexp(1, plassmannWolfeMTAlphaE1StepTrials/2); next > reach {
+		return reach
+	}
+	return next
 }
 
 // plassmannWolfeMTAlphaE1Negate sets out = −x.
@@ -471,13 +494,13 @@ func plassmannWolfeMTAlphaE1ConfirmGradient(x *[1]float64, fx float64, g, e *[1]
 		wide.ratio[i] *= 2
 	}
 	var doubled [1]float64
-	plassmannWolfeMTAlphaE1Derivative(x, fx, g, diffs)
-	plassmannWolfeMTAlphaE1Derivative(x, fx, &doubled, &wide)
+	calls += plassmannWolfeMTAlphaE1Derivative(x, fx, g, diffs)
+	calls += plassmannWolfeMTAlphaE1Derivative(x, fx, &doubled, &wide)
 	plassmannWolfeMTAlphaE1GradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * plassmannWolfeMTAlphaE1Abs(g[i]-doubled[i])
 	}
-	return calls + 2*plassmannWolfeMTAlphaE1DerivativeCost, true
+	return calls, true
 }
 
 // plassmannWolfeMTAlphaE1GradientError: the analytic gradient is taken as exact; its error is
@@ -519,18 +542,60 @@ func plassmannWolfeMTAlphaE1DiagonalCurvature(x, g *[1]float64, diffs *plassmann
 	var moved [1]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := plassmannWolfeMTAlphaE1ProbeStep(xi, plassmannWolfeMTAlphaE1SquareRoot(plassmannWolfeMTAlphaE1UnitRoundoff)*plassmannWolfeMTAlphaE1Larger(1, plassmannWolfeMTAlphaE1Abs(xi)))
-		probe[i] = up
-		moved[0] = PlassmannDeriv(probe[0])
-		h[i] = plassmannWolfeMTAlphaE1Abs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := plassmannWolfeMTAlphaE1CoordinateRange(i, diffs)
+		up, delta := plassmannWolfeMTAlphaE1ProbeStep(xi, plassmannWolfeMTAlphaE1OneSide(xi, plassmannWolfeMTAlphaE1SquareRoot(plassmannWolfeMTAlphaE1UnitRoundoff)*plassmannWolfeMTAlphaE1Larger(1, plassmannWolfeMTAlphaE1Abs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			moved[0] = PlassmannDeriv(probe[0])
+			h[i] = plassmannWolfeMTAlphaE1Abs(moved[i]-g[i]) / plassmannWolfeMTAlphaE1Abs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// plassmannWolfeMTAlphaE1ProbeStep returns x_i moved by h, and the step actually representable.
-func plassmannWolfeMTAlphaE1ProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// plassmannWolfeMTAlphaE1CoordinateRange: without bounds any probe is allowed.
+func plassmannWolfeMTAlphaE1CoordinateRange(i int, diffs *plassmannWolfeMTAlphaE1Differences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// plassmannWolfeMTAlphaE1ProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func plassmannWolfeMTAlphaE1ProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := plassmannWolfeMTAlphaE1ClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// plassmannWolfeMTAlphaE1ClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func plassmannWolfeMTAlphaE1ClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// plassmannWolfeMTAlphaE1OneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func plassmannWolfeMTAlphaE1OneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // plassmannWolfeMTAlphaE1SquareRoot returns √v.
@@ -546,6 +611,11 @@ func plassmannWolfeMTAlphaE1Larger(a, b float64) float64 {
 		return a
 	}
 	return b
+}
+
+// plassmannWolfeMTAlphaE1Stationarity measures the gradient itself.
+func plassmannWolfeMTAlphaE1Stationarity(g, e, x *[1]float64, fx float64, b *plassmannWolfeMTAlphaE1Box) (measure, floor float64) {
+	return plassmannWolfeMTAlphaE1GradientMeasure(g, e, x, fx)
 }
 
 // plassmannWolfeMTAlphaE1GradientMeasure is the scale-free measure
@@ -579,6 +649,14 @@ func plassmannWolfeMTAlphaE1StepWithin(s, x *[1]float64, tol float64) bool {
 		}
 	}
 	return true
+}
+
+// plassmannWolfeMTAlphaE1CurvaturePair: without bounds the pair is used as it is.
+func plassmannWolfeMTAlphaE1CurvaturePair(s, y, x *[1]float64, b *plassmannWolfeMTAlphaE1Box) {}
+
+// plassmannWolfeMTAlphaE1SearchDirection is the direction's own.
+func plassmannWolfeMTAlphaE1SearchDirection(dir *plassmannWolfeMTAlphaE1Direction, x, g, d *[1]float64, b *plassmannWolfeMTAlphaE1Box) {
+	dir.compute(g, d)
 }
 
 // plassmannWolfeMTAlphaE1Dot returns aᵀb.
@@ -617,7 +695,10 @@ func plassmannWolfeMTAlphaE1TinyStep(x, d *[1]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (plassmannWolfeMTAlphaE1StepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -626,13 +707,17 @@ func plassmannWolfeMTAlphaE1TinyStep(x, d *[1]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func plassmannWolfeMTAlphaE1LineSearch(x *[1]float64, fx float64, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *plassmannWolfeMTAlphaE1Differences) plassmannWolfeMTAlphaE1LineResult {
+func plassmannWolfeMTAlphaE1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *plassmannWolfeMTAlphaE1Differences) plassmannWolfeMTAlphaE1LineResult {
 	low := plassmannWolfeMTAlphaE1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high plassmannWolfeMTAlphaE1LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                       // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend plassmannWolfeMTAlphaE1RiseTrend // of the trials failing sufficient decrease
+	var trend plassmannWolfeMTAlphaE1RiseTrend                         // of the trials failing sufficient decrease
+	limit := plassmannWolfeMTAlphaE1StepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < plassmannWolfeMTAlphaE1StepTrials; trial++ {
 		if bracketed && plassmannWolfeMTAlphaE1Abs(high.step-low.step) <= tiny {
@@ -642,12 +727,12 @@ func plassmannWolfeMTAlphaE1LineSearch(x *[1]float64, fx float64, d *[1]float64,
 			if low.step == 0 {
 				return plassmannWolfeMTAlphaE1LineResult{calls: calls, rising: trend.contradicts(), end: plassmannWolfeMTAlphaE1TinyOrExhausted(plassmannWolfeMTAlphaE1Finite(high.value))}
 			}
-			return plassmannWolfeMTAlphaE1AcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return plassmannWolfeMTAlphaE1AcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return plassmannWolfeMTAlphaE1LineResult{calls: calls, end: plassmannWolfeMTAlphaE1SearchOutOfBudget}
 		}
-		plassmannWolfeMTAlphaE1MoveTo(xt, x, t, d)
+		plassmannWolfeMTAlphaE1TrialPoint(xt, x, t, d, &diffs.bounds)
 		current := plassmannWolfeMTAlphaE1LinePoint{step: t, value: Plassmann(xt[0])}
 		calls++
 		previous := low
@@ -658,8 +743,7 @@ func plassmannWolfeMTAlphaE1LineSearch(x *[1]float64, fx float64, d *[1]float64,
 			if calls+plassmannWolfeMTAlphaE1DerivativeCost > budget {
 				return plassmannWolfeMTAlphaE1LineResult{calls: calls, end: plassmannWolfeMTAlphaE1SearchOutOfBudget}
 			}
-			plassmannWolfeMTAlphaE1Derivative(xt, current.value, gt, diffs)
-			calls += plassmannWolfeMTAlphaE1DerivativeCost
+			calls += plassmannWolfeMTAlphaE1Derivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = plassmannWolfeMTAlphaE1Dot(gt, d), true
 			switch {
 			case !plassmannWolfeMTAlphaE1Finite(current.slope):
@@ -670,18 +754,22 @@ func plassmannWolfeMTAlphaE1LineSearch(x *[1]float64, fx float64, d *[1]float64,
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return plassmannWolfeMTAlphaE1LineResult{step: t, value: current.value, calls: calls, gradient: true, end: plassmannWolfeMTAlphaE1SearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = plassmannWolfeMTAlphaE1ZoomTrial(&low, &high)
-		} else {
-			t = plassmannWolfeMTAlphaE1ExpandTrial(&previous, &current)
+		} else if t = plassmannWolfeMTAlphaE1ExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return plassmannWolfeMTAlphaE1AcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return plassmannWolfeMTAlphaE1AcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return plassmannWolfeMTAlphaE1LineResult{calls: calls, rising: trend.contradicts(), end: plassmannWolfeMTAlphaE1SearchExhausted}
 }
@@ -768,6 +856,11 @@ func plassmannWolfeMTAlphaE1FaithfulStep(x, xt, d *[1]float64, t float64) bool {
 	return true
 }
 
+// plassmannWolfeMTAlphaE1StepCap: without bounds a step may be as long as the search wants.
+func plassmannWolfeMTAlphaE1StepCap(x, d *[1]float64, tiny float64, b *plassmannWolfeMTAlphaE1Box) float64 {
+	return math.Inf(1)
+}
+
 // plassmannWolfeMTAlphaE1TinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -792,10 +885,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func plassmannWolfeMTAlphaE1AcceptLow(x, d *[1]float64, low *plassmannWolfeMTAlphaE1LinePoint, lowGradient *[1]float64, calls int, xt, gt *[1]float64) plassmannWolfeMTAlphaE1LineResult {
-	plassmannWolfeMTAlphaE1MoveTo(xt, x, low.step, d)
+func plassmannWolfeMTAlphaE1AcceptLow(x, d *[1]float64, low *plassmannWolfeMTAlphaE1LinePoint, lowGradient *[1]float64, calls int, xt, gt *[1]float64, diffs *plassmannWolfeMTAlphaE1Differences) plassmannWolfeMTAlphaE1LineResult {
+	plassmannWolfeMTAlphaE1TrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return plassmannWolfeMTAlphaE1LineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: plassmannWolfeMTAlphaE1SearchAccepted}
+}
+
+// plassmannWolfeMTAlphaE1TrialPoint is x + t·d.
+func plassmannWolfeMTAlphaE1TrialPoint(out, x *[1]float64, t float64, d *[1]float64, b *plassmannWolfeMTAlphaE1Box) {
+	plassmannWolfeMTAlphaE1MoveTo(out, x, t, d)
 }
 
 // plassmannWolfeMTAlphaE1MoveTo sets out = x + t·d.
@@ -850,21 +948,6 @@ func plassmannWolfeMTAlphaE1ModelMinimizer(a, b *plassmannWolfeMTAlphaE1LinePoin
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, plassmannWolfeMTAlphaE1Finite(t)
-}
-
-// plassmannWolfeMTAlphaE1ClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func plassmannWolfeMTAlphaE1ClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // plassmannWolfeMTAlphaE1ExpandTrial picks a larger trial after current met sufficient decrease

@@ -88,6 +88,9 @@ func PlassmannWolfeNWAlphaEm3DefaultLimits() PlassmannWolfeNWAlphaEm3Limits {
 	}
 }
 
+// plassmannWolfeNWAlphaEm3Box is empty: linesearch.toml sets no bounds on PlassmannWolfeNWAlphaEm3.
+type plassmannWolfeNWAlphaEm3Box struct{}
+
 // PlassmannWolfeNWAlphaEm3 minimizes Plassmann from x0, as linesearch.toml specifies.
 //
 // Direction steepest: steepest descent, d = −∇f; no memory, linear convergence.
@@ -105,7 +108,7 @@ func PlassmannWolfeNWAlphaEm3(x0 float64) PlassmannWolfeNWAlphaEm3Result {
 
 // PlassmannWolfeNWAlphaEm3WithLimits is PlassmannWolfeNWAlphaEm3 with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func PlassmannWolfeNWAlphaEm3WithLimits(x0 float64, limits PlassmannWolfeNWAlphaEm3Limits) PlassmannWolfeNWAlphaEm3Result {
-	out := plassmannWolfeNWAlphaEm3Minimize([1]float64{x0}, limits)
+	out := plassmannWolfeNWAlphaEm3Minimize([1]float64{x0}, limits, plassmannWolfeNWAlphaEm3Box{})
 	return PlassmannWolfeNWAlphaEm3Result{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func plassmannWolfeNWAlphaEm3Minimize(x0 [1]float64, lim PlassmannWolfeNWAlphaEm3Limits) plassmannWolfeNWAlphaEm3Outcome {
-	out := plassmannWolfeNWAlphaEm3Outcome{x: x0, status: PlassmannWolfeNWAlphaEm3OutOfEvaluations, gradient: math.NaN()}
+func plassmannWolfeNWAlphaEm3Minimize(x0 [1]float64, lim PlassmannWolfeNWAlphaEm3Limits, bounds plassmannWolfeNWAlphaEm3Box) plassmannWolfeNWAlphaEm3Outcome {
+	x := x0
+	plassmannWolfeNWAlphaEm3EnterBox(&x, &bounds)
+	out := plassmannWolfeNWAlphaEm3Outcome{x: x, status: PlassmannWolfeNWAlphaEm3OutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := Plassmann(x[0])
 	out.f, out.evaluations = fx, 1
 	if !plassmannWolfeNWAlphaEm3Finite(fx) || !plassmannWolfeNWAlphaEm3FiniteVec(&x) {
 		out.status = PlassmannWolfeNWAlphaEm3NonFiniteStart
 		return out
 	}
-	var diffs plassmannWolfeNWAlphaEm3Differences
+	diffs := plassmannWolfeNWAlphaEm3Differences{bounds: bounds}
 	calls, ok := plassmannWolfeNWAlphaEm3Calibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+plassmannWolfeNWAlphaEm3DerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [1]float64
-	plassmannWolfeNWAlphaEm3Derivative(&x, fx, &g, &diffs)
-	out.evaluations += plassmannWolfeNWAlphaEm3DerivativeCost
+	out.evaluations += plassmannWolfeNWAlphaEm3Derivative(&x, fx, &g, &diffs)
 
 	if !plassmannWolfeNWAlphaEm3FiniteVec(&g) {
 		out.status = PlassmannWolfeNWAlphaEm3NonFiniteGradient
@@ -211,7 +214,7 @@ func plassmannWolfeNWAlphaEm3Minimize(x0 [1]float64, lim PlassmannWolfeNWAlphaEm
 		case !confirmed:
 			plassmannWolfeNWAlphaEm3GradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := plassmannWolfeNWAlphaEm3GradientMeasure(&g, &e, &x, fx)
+		measure, floor := plassmannWolfeNWAlphaEm3Stationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, plassmannWolfeNWAlphaEm3Larger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func plassmannWolfeNWAlphaEm3Minimize(x0 [1]float64, lim PlassmannWolfeNWAlphaEm
 			if rises >= 8 {
 				return best.ending(PlassmannWolfeNWAlphaEm3Diverged, out.iterations, out.evaluations)
 			}
+			plassmannWolfeNWAlphaEm3CurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(PlassmannWolfeNWAlphaEm3OutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		plassmannWolfeNWAlphaEm3SearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := plassmannWolfeNWAlphaEm3Dot(&g, &d)
 		if !(now < 0) || !plassmannWolfeNWAlphaEm3FiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			plassmannWolfeNWAlphaEm3SearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = plassmannWolfeNWAlphaEm3Dot(&g, &d)
 		}
 		first := float64(plassmannWolfeNWAlphaEm3StepInitial)
@@ -267,7 +271,7 @@ func plassmannWolfeNWAlphaEm3Minimize(x0 [1]float64, lim PlassmannWolfeNWAlphaEm
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := plassmannWolfeNWAlphaEm3TinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := plassmannWolfeNWAlphaEm3LineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := plassmannWolfeNWAlphaEm3LineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case plassmannWolfeNWAlphaEm3SearchOutOfBudget:
@@ -303,8 +307,7 @@ func plassmannWolfeNWAlphaEm3Minimize(x0 [1]float64, lim PlassmannWolfeNWAlphaEm
 				}
 				return best.ending(PlassmannWolfeNWAlphaEm3OutOfEvaluations, out.iterations, out.evaluations)
 			}
-			plassmannWolfeNWAlphaEm3Derivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += plassmannWolfeNWAlphaEm3DerivativeCost
+			out.evaluations += plassmannWolfeNWAlphaEm3Derivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		plassmannWolfeNWAlphaEm3Difference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o plassmannWolfeNWAlphaEm3Outcome) ending(end PlassmannWolfeNWAlphaEm3Stat
 	return o
 }
 
+// plassmannWolfeNWAlphaEm3EnterBox: without bounds every start is inside.
+func plassmannWolfeNWAlphaEm3EnterBox(x *[1]float64, b *plassmannWolfeNWAlphaEm3Box) {}
+
 // plassmannWolfeNWAlphaEm3Finite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func plassmannWolfeNWAlphaEm3FiniteVec(x *[1]float64) bool {
 	return true
 }
 
-// plassmannWolfeNWAlphaEm3Differences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// plassmannWolfeNWAlphaEm3Differences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type plassmannWolfeNWAlphaEm3Differences struct {
 	ratio     [1]float64
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see plassmannWolfeNWAlphaEm3RoundingFloor)
+	bounds    plassmannWolfeNWAlphaEm3Box
 }
 
 // plassmannWolfeNWAlphaEm3Calibrate: an analytic gradient needs no intervals.
@@ -384,8 +392,9 @@ func plassmannWolfeNWAlphaEm3Calibrate(x *[1]float64, fx float64, diffs *plassma
 }
 
 // plassmannWolfeNWAlphaEm3Derivative calls the user's gradient; it costs no objective calls.
-func plassmannWolfeNWAlphaEm3Derivative(x *[1]float64, fx float64, g *[1]float64, diffs *plassmannWolfeNWAlphaEm3Differences) {
+func plassmannWolfeNWAlphaEm3Derivative(x *[1]float64, fx float64, g *[1]float64, diffs *plassmannWolfeNWAlphaEm3Differences) int {
 	g[0] = PlassmannDeriv(x[0])
+	return 0
 }
 
 // plassmannWolfeNWAlphaEm3Direction is steepest descent, d = −∇f(x): the direction of
@@ -401,8 +410,22 @@ func (s *plassmannWolfeNWAlphaEm3Direction) compute(g, d *[1]float64) {
 
 func (s *plassmannWolfeNWAlphaEm3Direction) update(step, change *[1]float64) {}
 
+// firstTrial is the scaled trial (plassmannWolfeNWAlphaEm3ScaledTrial), grown at most by
+// 2^(plassmannWolfeNWAlphaEm3StepTrials/2) over the previous step t. Steepest descent is the one
+// direction paired with backtracking that scales its first trial, and
+// backtracking can only shrink: after a step that nearly solved the
+// problem the slope collapses, the ratio can exceed the range its trials
+// halve through, and the search would end with no acceptable step. The
+// cap keeps at least half the trials below the previous step (a safeguard
+// of our own; cg, whose ratios can legitimately be that large on badly
+// scaled problems, always pairs with a Wolfe search, which expands and
+// zooms instead).
 func (s *plassmannWolfeNWAlphaEm3Direction) firstTrial(t, slope, now float64) float64 {
-	return plassmannWolfeNWAlphaEm3ScaledTrial(t, slope, now)
+	next := plassmannWolfeNWAlphaEm3ScaledTrial(t, slope, now)
+	if reach := t * math.Ldexp(1, plassmannWolfeNWAlphaEm3StepTrials/2); next > reach {
+		return reach
+	}
+	return next
 }
 
 // plassmannWolfeNWAlphaEm3Negate sets out = −x.
@@ -471,13 +494,13 @@ func plassmannWolfeNWAlphaEm3ConfirmGradient(x *[1]float64, fx float64, g, e *[1
 		wide.ratio[i] *= 2
 	}
 	var doubled [1]float64
-	plassmannWolfeNWAlphaEm3Derivative(x, fx, g, diffs)
-	plassmannWolfeNWAlphaEm3Derivative(x, fx, &doubled, &wide)
+	calls += plassmannWolfeNWAlphaEm3Derivative(x, fx, g, diffs)
+	calls += plassmannWolfeNWAlphaEm3Derivative(x, fx, &doubled, &wide)
 	plassmannWolfeNWAlphaEm3GradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * plassmannWolfeNWAlphaEm3Abs(g[i]-doubled[i])
 	}
-	return calls + 2*plassmannWolfeNWAlphaEm3DerivativeCost, true
+	return calls, true
 }
 
 // plassmannWolfeNWAlphaEm3GradientError: the analytic gradient is taken as exact; its error is
@@ -519,18 +542,60 @@ func plassmannWolfeNWAlphaEm3DiagonalCurvature(x, g *[1]float64, diffs *plassman
 	var moved [1]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := plassmannWolfeNWAlphaEm3ProbeStep(xi, plassmannWolfeNWAlphaEm3SquareRoot(plassmannWolfeNWAlphaEm3UnitRoundoff)*plassmannWolfeNWAlphaEm3Larger(1, plassmannWolfeNWAlphaEm3Abs(xi)))
-		probe[i] = up
-		moved[0] = PlassmannDeriv(probe[0])
-		h[i] = plassmannWolfeNWAlphaEm3Abs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := plassmannWolfeNWAlphaEm3CoordinateRange(i, diffs)
+		up, delta := plassmannWolfeNWAlphaEm3ProbeStep(xi, plassmannWolfeNWAlphaEm3OneSide(xi, plassmannWolfeNWAlphaEm3SquareRoot(plassmannWolfeNWAlphaEm3UnitRoundoff)*plassmannWolfeNWAlphaEm3Larger(1, plassmannWolfeNWAlphaEm3Abs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			moved[0] = PlassmannDeriv(probe[0])
+			h[i] = plassmannWolfeNWAlphaEm3Abs(moved[i]-g[i]) / plassmannWolfeNWAlphaEm3Abs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// plassmannWolfeNWAlphaEm3ProbeStep returns x_i moved by h, and the step actually representable.
-func plassmannWolfeNWAlphaEm3ProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// plassmannWolfeNWAlphaEm3CoordinateRange: without bounds any probe is allowed.
+func plassmannWolfeNWAlphaEm3CoordinateRange(i int, diffs *plassmannWolfeNWAlphaEm3Differences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// plassmannWolfeNWAlphaEm3ProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func plassmannWolfeNWAlphaEm3ProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := plassmannWolfeNWAlphaEm3ClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// plassmannWolfeNWAlphaEm3ClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func plassmannWolfeNWAlphaEm3ClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// plassmannWolfeNWAlphaEm3OneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func plassmannWolfeNWAlphaEm3OneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // plassmannWolfeNWAlphaEm3SquareRoot returns √v.
@@ -546,6 +611,11 @@ func plassmannWolfeNWAlphaEm3Larger(a, b float64) float64 {
 		return a
 	}
 	return b
+}
+
+// plassmannWolfeNWAlphaEm3Stationarity measures the gradient itself.
+func plassmannWolfeNWAlphaEm3Stationarity(g, e, x *[1]float64, fx float64, b *plassmannWolfeNWAlphaEm3Box) (measure, floor float64) {
+	return plassmannWolfeNWAlphaEm3GradientMeasure(g, e, x, fx)
 }
 
 // plassmannWolfeNWAlphaEm3GradientMeasure is the scale-free measure
@@ -579,6 +649,14 @@ func plassmannWolfeNWAlphaEm3StepWithin(s, x *[1]float64, tol float64) bool {
 		}
 	}
 	return true
+}
+
+// plassmannWolfeNWAlphaEm3CurvaturePair: without bounds the pair is used as it is.
+func plassmannWolfeNWAlphaEm3CurvaturePair(s, y, x *[1]float64, b *plassmannWolfeNWAlphaEm3Box) {}
+
+// plassmannWolfeNWAlphaEm3SearchDirection is the direction's own.
+func plassmannWolfeNWAlphaEm3SearchDirection(dir *plassmannWolfeNWAlphaEm3Direction, x, g, d *[1]float64, b *plassmannWolfeNWAlphaEm3Box) {
+	dir.compute(g, d)
 }
 
 // plassmannWolfeNWAlphaEm3Dot returns aᵀb.
@@ -617,7 +695,10 @@ func plassmannWolfeNWAlphaEm3TinyStep(x, d *[1]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (plassmannWolfeNWAlphaEm3StepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -626,13 +707,17 @@ func plassmannWolfeNWAlphaEm3TinyStep(x, d *[1]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func plassmannWolfeNWAlphaEm3LineSearch(x *[1]float64, fx float64, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *plassmannWolfeNWAlphaEm3Differences) plassmannWolfeNWAlphaEm3LineResult {
+func plassmannWolfeNWAlphaEm3LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *plassmannWolfeNWAlphaEm3Differences) plassmannWolfeNWAlphaEm3LineResult {
 	low := plassmannWolfeNWAlphaEm3LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high plassmannWolfeNWAlphaEm3LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                        // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend plassmannWolfeNWAlphaEm3RiseTrend // of the trials failing sufficient decrease
+	var trend plassmannWolfeNWAlphaEm3RiseTrend                         // of the trials failing sufficient decrease
+	limit := plassmannWolfeNWAlphaEm3StepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < plassmannWolfeNWAlphaEm3StepTrials; trial++ {
 		if bracketed && plassmannWolfeNWAlphaEm3Abs(high.step-low.step) <= tiny {
@@ -642,12 +727,12 @@ func plassmannWolfeNWAlphaEm3LineSearch(x *[1]float64, fx float64, d *[1]float64
 			if low.step == 0 {
 				return plassmannWolfeNWAlphaEm3LineResult{calls: calls, rising: trend.contradicts(), end: plassmannWolfeNWAlphaEm3TinyOrExhausted(plassmannWolfeNWAlphaEm3Finite(high.value))}
 			}
-			return plassmannWolfeNWAlphaEm3AcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return plassmannWolfeNWAlphaEm3AcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return plassmannWolfeNWAlphaEm3LineResult{calls: calls, end: plassmannWolfeNWAlphaEm3SearchOutOfBudget}
 		}
-		plassmannWolfeNWAlphaEm3MoveTo(xt, x, t, d)
+		plassmannWolfeNWAlphaEm3TrialPoint(xt, x, t, d, &diffs.bounds)
 		current := plassmannWolfeNWAlphaEm3LinePoint{step: t, value: Plassmann(xt[0])}
 		calls++
 		previous := low
@@ -658,8 +743,7 @@ func plassmannWolfeNWAlphaEm3LineSearch(x *[1]float64, fx float64, d *[1]float64
 			if calls+plassmannWolfeNWAlphaEm3DerivativeCost > budget {
 				return plassmannWolfeNWAlphaEm3LineResult{calls: calls, end: plassmannWolfeNWAlphaEm3SearchOutOfBudget}
 			}
-			plassmannWolfeNWAlphaEm3Derivative(xt, current.value, gt, diffs)
-			calls += plassmannWolfeNWAlphaEm3DerivativeCost
+			calls += plassmannWolfeNWAlphaEm3Derivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = plassmannWolfeNWAlphaEm3Dot(gt, d), true
 			switch {
 			case !plassmannWolfeNWAlphaEm3Finite(current.slope):
@@ -670,18 +754,22 @@ func plassmannWolfeNWAlphaEm3LineSearch(x *[1]float64, fx float64, d *[1]float64
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return plassmannWolfeNWAlphaEm3LineResult{step: t, value: current.value, calls: calls, gradient: true, end: plassmannWolfeNWAlphaEm3SearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = plassmannWolfeNWAlphaEm3ZoomTrial(&low, &high)
-		} else {
-			t = plassmannWolfeNWAlphaEm3ExpandTrial(&previous, &current)
+		} else if t = plassmannWolfeNWAlphaEm3ExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return plassmannWolfeNWAlphaEm3AcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return plassmannWolfeNWAlphaEm3AcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return plassmannWolfeNWAlphaEm3LineResult{calls: calls, rising: trend.contradicts(), end: plassmannWolfeNWAlphaEm3SearchExhausted}
 }
@@ -768,6 +856,11 @@ func plassmannWolfeNWAlphaEm3FaithfulStep(x, xt, d *[1]float64, t float64) bool 
 	return true
 }
 
+// plassmannWolfeNWAlphaEm3StepCap: without bounds a step may be as long as the search wants.
+func plassmannWolfeNWAlphaEm3StepCap(x, d *[1]float64, tiny float64, b *plassmannWolfeNWAlphaEm3Box) float64 {
+	return math.Inf(1)
+}
+
 // plassmannWolfeNWAlphaEm3TinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -792,10 +885,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func plassmannWolfeNWAlphaEm3AcceptLow(x, d *[1]float64, low *plassmannWolfeNWAlphaEm3LinePoint, lowGradient *[1]float64, calls int, xt, gt *[1]float64) plassmannWolfeNWAlphaEm3LineResult {
-	plassmannWolfeNWAlphaEm3MoveTo(xt, x, low.step, d)
+func plassmannWolfeNWAlphaEm3AcceptLow(x, d *[1]float64, low *plassmannWolfeNWAlphaEm3LinePoint, lowGradient *[1]float64, calls int, xt, gt *[1]float64, diffs *plassmannWolfeNWAlphaEm3Differences) plassmannWolfeNWAlphaEm3LineResult {
+	plassmannWolfeNWAlphaEm3TrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return plassmannWolfeNWAlphaEm3LineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: plassmannWolfeNWAlphaEm3SearchAccepted}
+}
+
+// plassmannWolfeNWAlphaEm3TrialPoint is x + t·d.
+func plassmannWolfeNWAlphaEm3TrialPoint(out, x *[1]float64, t float64, d *[1]float64, b *plassmannWolfeNWAlphaEm3Box) {
+	plassmannWolfeNWAlphaEm3MoveTo(out, x, t, d)
 }
 
 // plassmannWolfeNWAlphaEm3MoveTo sets out = x + t·d.
@@ -850,21 +948,6 @@ func plassmannWolfeNWAlphaEm3ModelMinimizer(a, b *plassmannWolfeNWAlphaEm3LinePo
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, plassmannWolfeNWAlphaEm3Finite(t)
-}
-
-// plassmannWolfeNWAlphaEm3ClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func plassmannWolfeNWAlphaEm3ClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // plassmannWolfeNWAlphaEm3ExpandTrial picks a larger trial after current met sufficient decrease

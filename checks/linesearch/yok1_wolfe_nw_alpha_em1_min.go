@@ -88,6 +88,9 @@ func YOK1WolfeNWAlphaEm1DefaultLimits() YOK1WolfeNWAlphaEm1Limits {
 	}
 }
 
+// yok1WolfeNWAlphaEm1Box is empty: linesearch.toml sets no bounds on YOK1WolfeNWAlphaEm1.
+type yok1WolfeNWAlphaEm1Box struct{}
+
 // YOK1WolfeNWAlphaEm1 minimizes YOK1 from x0, as linesearch.toml specifies.
 //
 // Direction steepest: steepest descent, d = −∇f; no memory, linear convergence.
@@ -105,7 +108,7 @@ func YOK1WolfeNWAlphaEm1(x0 float64) YOK1WolfeNWAlphaEm1Result {
 
 // YOK1WolfeNWAlphaEm1WithLimits is YOK1WolfeNWAlphaEm1 with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func YOK1WolfeNWAlphaEm1WithLimits(x0 float64, limits YOK1WolfeNWAlphaEm1Limits) YOK1WolfeNWAlphaEm1Result {
-	out := yok1WolfeNWAlphaEm1Minimize([1]float64{x0}, limits)
+	out := yok1WolfeNWAlphaEm1Minimize([1]float64{x0}, limits, yok1WolfeNWAlphaEm1Box{})
 	return YOK1WolfeNWAlphaEm1Result{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func yok1WolfeNWAlphaEm1Minimize(x0 [1]float64, lim YOK1WolfeNWAlphaEm1Limits) yok1WolfeNWAlphaEm1Outcome {
-	out := yok1WolfeNWAlphaEm1Outcome{x: x0, status: YOK1WolfeNWAlphaEm1OutOfEvaluations, gradient: math.NaN()}
+func yok1WolfeNWAlphaEm1Minimize(x0 [1]float64, lim YOK1WolfeNWAlphaEm1Limits, bounds yok1WolfeNWAlphaEm1Box) yok1WolfeNWAlphaEm1Outcome {
+	x := x0
+	yok1WolfeNWAlphaEm1EnterBox(&x, &bounds)
+	out := yok1WolfeNWAlphaEm1Outcome{x: x, status: YOK1WolfeNWAlphaEm1OutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := YOK1(x[0])
 	out.f, out.evaluations = fx, 1
 	if !yok1WolfeNWAlphaEm1Finite(fx) || !yok1WolfeNWAlphaEm1FiniteVec(&x) {
 		out.status = YOK1WolfeNWAlphaEm1NonFiniteStart
 		return out
 	}
-	var diffs yok1WolfeNWAlphaEm1Differences
+	diffs := yok1WolfeNWAlphaEm1Differences{bounds: bounds}
 	calls, ok := yok1WolfeNWAlphaEm1Calibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+yok1WolfeNWAlphaEm1DerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [1]float64
-	yok1WolfeNWAlphaEm1Derivative(&x, fx, &g, &diffs)
-	out.evaluations += yok1WolfeNWAlphaEm1DerivativeCost
+	out.evaluations += yok1WolfeNWAlphaEm1Derivative(&x, fx, &g, &diffs)
 
 	if !yok1WolfeNWAlphaEm1FiniteVec(&g) {
 		out.status = YOK1WolfeNWAlphaEm1NonFiniteGradient
@@ -211,7 +214,7 @@ func yok1WolfeNWAlphaEm1Minimize(x0 [1]float64, lim YOK1WolfeNWAlphaEm1Limits) y
 		case !confirmed:
 			yok1WolfeNWAlphaEm1GradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := yok1WolfeNWAlphaEm1GradientMeasure(&g, &e, &x, fx)
+		measure, floor := yok1WolfeNWAlphaEm1Stationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, yok1WolfeNWAlphaEm1Larger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func yok1WolfeNWAlphaEm1Minimize(x0 [1]float64, lim YOK1WolfeNWAlphaEm1Limits) y
 			if rises >= 8 {
 				return best.ending(YOK1WolfeNWAlphaEm1Diverged, out.iterations, out.evaluations)
 			}
+			yok1WolfeNWAlphaEm1CurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(YOK1WolfeNWAlphaEm1OutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		yok1WolfeNWAlphaEm1SearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := yok1WolfeNWAlphaEm1Dot(&g, &d)
 		if !(now < 0) || !yok1WolfeNWAlphaEm1FiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			yok1WolfeNWAlphaEm1SearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = yok1WolfeNWAlphaEm1Dot(&g, &d)
 		}
 		first := float64(yok1WolfeNWAlphaEm1StepInitial)
@@ -267,7 +271,7 @@ func yok1WolfeNWAlphaEm1Minimize(x0 [1]float64, lim YOK1WolfeNWAlphaEm1Limits) y
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := yok1WolfeNWAlphaEm1TinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := yok1WolfeNWAlphaEm1LineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := yok1WolfeNWAlphaEm1LineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case yok1WolfeNWAlphaEm1SearchOutOfBudget:
@@ -303,8 +307,7 @@ func yok1WolfeNWAlphaEm1Minimize(x0 [1]float64, lim YOK1WolfeNWAlphaEm1Limits) y
 				}
 				return best.ending(YOK1WolfeNWAlphaEm1OutOfEvaluations, out.iterations, out.evaluations)
 			}
-			yok1WolfeNWAlphaEm1Derivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += yok1WolfeNWAlphaEm1DerivativeCost
+			out.evaluations += yok1WolfeNWAlphaEm1Derivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		yok1WolfeNWAlphaEm1Difference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o yok1WolfeNWAlphaEm1Outcome) ending(end YOK1WolfeNWAlphaEm1Status, iterat
 	return o
 }
 
+// yok1WolfeNWAlphaEm1EnterBox: without bounds every start is inside.
+func yok1WolfeNWAlphaEm1EnterBox(x *[1]float64, b *yok1WolfeNWAlphaEm1Box) {}
+
 // yok1WolfeNWAlphaEm1Finite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func yok1WolfeNWAlphaEm1FiniteVec(x *[1]float64) bool {
 	return true
 }
 
-// yok1WolfeNWAlphaEm1Differences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// yok1WolfeNWAlphaEm1Differences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type yok1WolfeNWAlphaEm1Differences struct {
 	ratio     [1]float64
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see yok1WolfeNWAlphaEm1RoundingFloor)
+	bounds    yok1WolfeNWAlphaEm1Box
 }
 
 // yok1WolfeNWAlphaEm1Calibrate: an analytic gradient needs no intervals.
@@ -384,8 +392,9 @@ func yok1WolfeNWAlphaEm1Calibrate(x *[1]float64, fx float64, diffs *yok1WolfeNWA
 }
 
 // yok1WolfeNWAlphaEm1Derivative calls the user's gradient; it costs no objective calls.
-func yok1WolfeNWAlphaEm1Derivative(x *[1]float64, fx float64, g *[1]float64, diffs *yok1WolfeNWAlphaEm1Differences) {
+func yok1WolfeNWAlphaEm1Derivative(x *[1]float64, fx float64, g *[1]float64, diffs *yok1WolfeNWAlphaEm1Differences) int {
 	g[0] = YOK1Deriv(x[0])
+	return 0
 }
 
 // yok1WolfeNWAlphaEm1Direction is steepest descent, d = −∇f(x): the direction of
@@ -401,8 +410,22 @@ func (s *yok1WolfeNWAlphaEm1Direction) compute(g, d *[1]float64) {
 
 func (s *yok1WolfeNWAlphaEm1Direction) update(step, change *[1]float64) {}
 
+// firstTrial is the scaled trial (yok1WolfeNWAlphaEm1ScaledTrial), grown at most by
+// 2^(yok1WolfeNWAlphaEm1StepTrials/2) over the previous step t. Steepest descent is the one
+// direction paired with backtracking that scales its first trial, and
+// backtracking can only shrink: after a step that nearly solved the
+// problem the slope collapses, the ratio can exceed the range its trials
+// halve through, and the search would end with no acceptable step. The
+// cap keeps at least half the trials below the previous step (a safeguard
+// of our own; cg, whose ratios can legitimately be that large on badly
+// scaled problems, always pairs with a Wolfe search, which expands and
+// zooms instead).
 func (s *yok1WolfeNWAlphaEm1Direction) firstTrial(t, slope, now float64) float64 {
-	return yok1WolfeNWAlphaEm1ScaledTrial(t, slope, now)
+	next := yok1WolfeNWAlphaEm1ScaledTrial(t, slope, now)
+	if reach := t * math.Ldexp(1, yok1WolfeNWAlphaEm1StepTrials/2); next > reach {
+		return reach
+	}
+	return next
 }
 
 // yok1WolfeNWAlphaEm1Negate sets out = −x.
@@ -471,13 +494,13 @@ func yok1WolfeNWAlphaEm1ConfirmGradient(x *[1]float64, fx float64, g, e *[1]floa
 		wide.ratio[i] *= 2
 	}
 	var doubled [1]float64
-	yok1WolfeNWAlphaEm1Derivative(x, fx, g, diffs)
-	yok1WolfeNWAlphaEm1Derivative(x, fx, &doubled, &wide)
+	calls += yok1WolfeNWAlphaEm1Derivative(x, fx, g, diffs)
+	calls += yok1WolfeNWAlphaEm1Derivative(x, fx, &doubled, &wide)
 	yok1WolfeNWAlphaEm1GradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * yok1WolfeNWAlphaEm1Abs(g[i]-doubled[i])
 	}
-	return calls + 2*yok1WolfeNWAlphaEm1DerivativeCost, true
+	return calls, true
 }
 
 // yok1WolfeNWAlphaEm1GradientError: the analytic gradient is taken as exact; its error is
@@ -519,18 +542,60 @@ func yok1WolfeNWAlphaEm1DiagonalCurvature(x, g *[1]float64, diffs *yok1WolfeNWAl
 	var moved [1]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := yok1WolfeNWAlphaEm1ProbeStep(xi, yok1WolfeNWAlphaEm1SquareRoot(yok1WolfeNWAlphaEm1UnitRoundoff)*yok1WolfeNWAlphaEm1Larger(1, yok1WolfeNWAlphaEm1Abs(xi)))
-		probe[i] = up
-		moved[0] = YOK1Deriv(probe[0])
-		h[i] = yok1WolfeNWAlphaEm1Abs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := yok1WolfeNWAlphaEm1CoordinateRange(i, diffs)
+		up, delta := yok1WolfeNWAlphaEm1ProbeStep(xi, yok1WolfeNWAlphaEm1OneSide(xi, yok1WolfeNWAlphaEm1SquareRoot(yok1WolfeNWAlphaEm1UnitRoundoff)*yok1WolfeNWAlphaEm1Larger(1, yok1WolfeNWAlphaEm1Abs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			moved[0] = YOK1Deriv(probe[0])
+			h[i] = yok1WolfeNWAlphaEm1Abs(moved[i]-g[i]) / yok1WolfeNWAlphaEm1Abs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// yok1WolfeNWAlphaEm1ProbeStep returns x_i moved by h, and the step actually representable.
-func yok1WolfeNWAlphaEm1ProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// yok1WolfeNWAlphaEm1CoordinateRange: without bounds any probe is allowed.
+func yok1WolfeNWAlphaEm1CoordinateRange(i int, diffs *yok1WolfeNWAlphaEm1Differences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// yok1WolfeNWAlphaEm1ProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func yok1WolfeNWAlphaEm1ProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := yok1WolfeNWAlphaEm1ClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// yok1WolfeNWAlphaEm1ClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func yok1WolfeNWAlphaEm1ClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// yok1WolfeNWAlphaEm1OneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func yok1WolfeNWAlphaEm1OneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // yok1WolfeNWAlphaEm1SquareRoot returns √v.
@@ -546,6 +611,11 @@ func yok1WolfeNWAlphaEm1Larger(a, b float64) float64 {
 		return a
 	}
 	return b
+}
+
+// yok1WolfeNWAlphaEm1Stationarity measures the gradient itself.
+func yok1WolfeNWAlphaEm1Stationarity(g, e, x *[1]float64, fx float64, b *yok1WolfeNWAlphaEm1Box) (measure, floor float64) {
+	return yok1WolfeNWAlphaEm1GradientMeasure(g, e, x, fx)
 }
 
 // yok1WolfeNWAlphaEm1GradientMeasure is the scale-free measure
@@ -579,6 +649,14 @@ func yok1WolfeNWAlphaEm1StepWithin(s, x *[1]float64, tol float64) bool {
 		}
 	}
 	return true
+}
+
+// yok1WolfeNWAlphaEm1CurvaturePair: without bounds the pair is used as it is.
+func yok1WolfeNWAlphaEm1CurvaturePair(s, y, x *[1]float64, b *yok1WolfeNWAlphaEm1Box) {}
+
+// yok1WolfeNWAlphaEm1SearchDirection is the direction's own.
+func yok1WolfeNWAlphaEm1SearchDirection(dir *yok1WolfeNWAlphaEm1Direction, x, g, d *[1]float64, b *yok1WolfeNWAlphaEm1Box) {
+	dir.compute(g, d)
 }
 
 // yok1WolfeNWAlphaEm1Dot returns aᵀb.
@@ -617,7 +695,10 @@ func yok1WolfeNWAlphaEm1TinyStep(x, d *[1]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (yok1WolfeNWAlphaEm1StepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -626,13 +707,17 @@ func yok1WolfeNWAlphaEm1TinyStep(x, d *[1]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func yok1WolfeNWAlphaEm1LineSearch(x *[1]float64, fx float64, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *yok1WolfeNWAlphaEm1Differences) yok1WolfeNWAlphaEm1LineResult {
+func yok1WolfeNWAlphaEm1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *yok1WolfeNWAlphaEm1Differences) yok1WolfeNWAlphaEm1LineResult {
 	low := yok1WolfeNWAlphaEm1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high yok1WolfeNWAlphaEm1LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                   // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend yok1WolfeNWAlphaEm1RiseTrend // of the trials failing sufficient decrease
+	var trend yok1WolfeNWAlphaEm1RiseTrend                         // of the trials failing sufficient decrease
+	limit := yok1WolfeNWAlphaEm1StepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < yok1WolfeNWAlphaEm1StepTrials; trial++ {
 		if bracketed && yok1WolfeNWAlphaEm1Abs(high.step-low.step) <= tiny {
@@ -642,12 +727,12 @@ func yok1WolfeNWAlphaEm1LineSearch(x *[1]float64, fx float64, d *[1]float64, slo
 			if low.step == 0 {
 				return yok1WolfeNWAlphaEm1LineResult{calls: calls, rising: trend.contradicts(), end: yok1WolfeNWAlphaEm1TinyOrExhausted(yok1WolfeNWAlphaEm1Finite(high.value))}
 			}
-			return yok1WolfeNWAlphaEm1AcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return yok1WolfeNWAlphaEm1AcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return yok1WolfeNWAlphaEm1LineResult{calls: calls, end: yok1WolfeNWAlphaEm1SearchOutOfBudget}
 		}
-		yok1WolfeNWAlphaEm1MoveTo(xt, x, t, d)
+		yok1WolfeNWAlphaEm1TrialPoint(xt, x, t, d, &diffs.bounds)
 		current := yok1WolfeNWAlphaEm1LinePoint{step: t, value: YOK1(xt[0])}
 		calls++
 		previous := low
@@ -658,8 +743,7 @@ func yok1WolfeNWAlphaEm1LineSearch(x *[1]float64, fx float64, d *[1]float64, slo
 			if calls+yok1WolfeNWAlphaEm1DerivativeCost > budget {
 				return yok1WolfeNWAlphaEm1LineResult{calls: calls, end: yok1WolfeNWAlphaEm1SearchOutOfBudget}
 			}
-			yok1WolfeNWAlphaEm1Derivative(xt, current.value, gt, diffs)
-			calls += yok1WolfeNWAlphaEm1DerivativeCost
+			calls += yok1WolfeNWAlphaEm1Derivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = yok1WolfeNWAlphaEm1Dot(gt, d), true
 			switch {
 			case !yok1WolfeNWAlphaEm1Finite(current.slope):
@@ -670,18 +754,22 @@ func yok1WolfeNWAlphaEm1LineSearch(x *[1]float64, fx float64, d *[1]float64, slo
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return yok1WolfeNWAlphaEm1LineResult{step: t, value: current.value, calls: calls, gradient: true, end: yok1WolfeNWAlphaEm1SearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = yok1WolfeNWAlphaEm1ZoomTrial(&low, &high)
-		} else {
-			t = yok1WolfeNWAlphaEm1ExpandTrial(&previous, &current)
+		} else if t = yok1WolfeNWAlphaEm1ExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return yok1WolfeNWAlphaEm1AcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return yok1WolfeNWAlphaEm1AcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return yok1WolfeNWAlphaEm1LineResult{calls: calls, rising: trend.contradicts(), end: yok1WolfeNWAlphaEm1SearchExhausted}
 }
@@ -768,6 +856,11 @@ func yok1WolfeNWAlphaEm1FaithfulStep(x, xt, d *[1]float64, t float64) bool {
 	return true
 }
 
+// yok1WolfeNWAlphaEm1StepCap: without bounds a step may be as long as the search wants.
+func yok1WolfeNWAlphaEm1StepCap(x, d *[1]float64, tiny float64, b *yok1WolfeNWAlphaEm1Box) float64 {
+	return math.Inf(1)
+}
+
 // yok1WolfeNWAlphaEm1TinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -792,10 +885,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func yok1WolfeNWAlphaEm1AcceptLow(x, d *[1]float64, low *yok1WolfeNWAlphaEm1LinePoint, lowGradient *[1]float64, calls int, xt, gt *[1]float64) yok1WolfeNWAlphaEm1LineResult {
-	yok1WolfeNWAlphaEm1MoveTo(xt, x, low.step, d)
+func yok1WolfeNWAlphaEm1AcceptLow(x, d *[1]float64, low *yok1WolfeNWAlphaEm1LinePoint, lowGradient *[1]float64, calls int, xt, gt *[1]float64, diffs *yok1WolfeNWAlphaEm1Differences) yok1WolfeNWAlphaEm1LineResult {
+	yok1WolfeNWAlphaEm1TrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return yok1WolfeNWAlphaEm1LineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: yok1WolfeNWAlphaEm1SearchAccepted}
+}
+
+// yok1WolfeNWAlphaEm1TrialPoint is x + t·d.
+func yok1WolfeNWAlphaEm1TrialPoint(out, x *[1]float64, t float64, d *[1]float64, b *yok1WolfeNWAlphaEm1Box) {
+	yok1WolfeNWAlphaEm1MoveTo(out, x, t, d)
 }
 
 // yok1WolfeNWAlphaEm1MoveTo sets out = x + t·d.
@@ -850,21 +948,6 @@ func yok1WolfeNWAlphaEm1ModelMinimizer(a, b *yok1WolfeNWAlphaEm1LinePoint) (t fl
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, yok1WolfeNWAlphaEm1Finite(t)
-}
-
-// yok1WolfeNWAlphaEm1ClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func yok1WolfeNWAlphaEm1ClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // yok1WolfeNWAlphaEm1ExpandTrial picks a larger trial after current met sufficient decrease

@@ -88,6 +88,9 @@ func YOK2StrongWolfeMTAlphaEm1DefaultLimits() YOK2StrongWolfeMTAlphaEm1Limits {
 	}
 }
 
+// yok2StrongWolfeMTAlphaEm1Box is empty: linesearch.toml sets no bounds on YOK2StrongWolfeMTAlphaEm1.
+type yok2StrongWolfeMTAlphaEm1Box struct{}
+
 // YOK2StrongWolfeMTAlphaEm1 minimizes YOK2 from x0, as linesearch.toml specifies.
 //
 // Direction steepest: steepest descent, d = −∇f; no memory, linear convergence.
@@ -105,7 +108,7 @@ func YOK2StrongWolfeMTAlphaEm1(x0 float64) YOK2StrongWolfeMTAlphaEm1Result {
 
 // YOK2StrongWolfeMTAlphaEm1WithLimits is YOK2StrongWolfeMTAlphaEm1 with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func YOK2StrongWolfeMTAlphaEm1WithLimits(x0 float64, limits YOK2StrongWolfeMTAlphaEm1Limits) YOK2StrongWolfeMTAlphaEm1Result {
-	out := yok2StrongWolfeMTAlphaEm1Minimize([1]float64{x0}, limits)
+	out := yok2StrongWolfeMTAlphaEm1Minimize([1]float64{x0}, limits, yok2StrongWolfeMTAlphaEm1Box{})
 	return YOK2StrongWolfeMTAlphaEm1Result{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func yok2StrongWolfeMTAlphaEm1Minimize(x0 [1]float64, lim YOK2StrongWolfeMTAlphaEm1Limits) yok2StrongWolfeMTAlphaEm1Outcome {
-	out := yok2StrongWolfeMTAlphaEm1Outcome{x: x0, status: YOK2StrongWolfeMTAlphaEm1OutOfEvaluations, gradient: math.NaN()}
+func yok2StrongWolfeMTAlphaEm1Minimize(x0 [1]float64, lim YOK2StrongWolfeMTAlphaEm1Limits, bounds yok2StrongWolfeMTAlphaEm1Box) yok2StrongWolfeMTAlphaEm1Outcome {
+	x := x0
+	yok2StrongWolfeMTAlphaEm1EnterBox(&x, &bounds)
+	out := yok2StrongWolfeMTAlphaEm1Outcome{x: x, status: YOK2StrongWolfeMTAlphaEm1OutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := YOK2(x[0])
 	out.f, out.evaluations = fx, 1
 	if !yok2StrongWolfeMTAlphaEm1Finite(fx) || !yok2StrongWolfeMTAlphaEm1FiniteVec(&x) {
 		out.status = YOK2StrongWolfeMTAlphaEm1NonFiniteStart
 		return out
 	}
-	var diffs yok2StrongWolfeMTAlphaEm1Differences
+	diffs := yok2StrongWolfeMTAlphaEm1Differences{bounds: bounds}
 	calls, ok := yok2StrongWolfeMTAlphaEm1Calibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+yok2StrongWolfeMTAlphaEm1DerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [1]float64
-	yok2StrongWolfeMTAlphaEm1Derivative(&x, fx, &g, &diffs)
-	out.evaluations += yok2StrongWolfeMTAlphaEm1DerivativeCost
+	out.evaluations += yok2StrongWolfeMTAlphaEm1Derivative(&x, fx, &g, &diffs)
 
 	if !yok2StrongWolfeMTAlphaEm1FiniteVec(&g) {
 		out.status = YOK2StrongWolfeMTAlphaEm1NonFiniteGradient
@@ -211,7 +214,7 @@ func yok2StrongWolfeMTAlphaEm1Minimize(x0 [1]float64, lim YOK2StrongWolfeMTAlpha
 		case !confirmed:
 			yok2StrongWolfeMTAlphaEm1GradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := yok2StrongWolfeMTAlphaEm1GradientMeasure(&g, &e, &x, fx)
+		measure, floor := yok2StrongWolfeMTAlphaEm1Stationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, yok2StrongWolfeMTAlphaEm1Larger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func yok2StrongWolfeMTAlphaEm1Minimize(x0 [1]float64, lim YOK2StrongWolfeMTAlpha
 			if rises >= 8 {
 				return best.ending(YOK2StrongWolfeMTAlphaEm1Diverged, out.iterations, out.evaluations)
 			}
+			yok2StrongWolfeMTAlphaEm1CurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(YOK2StrongWolfeMTAlphaEm1OutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		yok2StrongWolfeMTAlphaEm1SearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := yok2StrongWolfeMTAlphaEm1Dot(&g, &d)
 		if !(now < 0) || !yok2StrongWolfeMTAlphaEm1FiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			yok2StrongWolfeMTAlphaEm1SearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = yok2StrongWolfeMTAlphaEm1Dot(&g, &d)
 		}
 		first := float64(yok2StrongWolfeMTAlphaEm1StepInitial)
@@ -267,7 +271,7 @@ func yok2StrongWolfeMTAlphaEm1Minimize(x0 [1]float64, lim YOK2StrongWolfeMTAlpha
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := yok2StrongWolfeMTAlphaEm1TinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := yok2StrongWolfeMTAlphaEm1LineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := yok2StrongWolfeMTAlphaEm1LineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case yok2StrongWolfeMTAlphaEm1SearchOutOfBudget:
@@ -303,8 +307,7 @@ func yok2StrongWolfeMTAlphaEm1Minimize(x0 [1]float64, lim YOK2StrongWolfeMTAlpha
 				}
 				return best.ending(YOK2StrongWolfeMTAlphaEm1OutOfEvaluations, out.iterations, out.evaluations)
 			}
-			yok2StrongWolfeMTAlphaEm1Derivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += yok2StrongWolfeMTAlphaEm1DerivativeCost
+			out.evaluations += yok2StrongWolfeMTAlphaEm1Derivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		yok2StrongWolfeMTAlphaEm1Difference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o yok2StrongWolfeMTAlphaEm1Outcome) ending(end YOK2StrongWolfeMTAlphaEm1St
 	return o
 }
 
+// yok2StrongWolfeMTAlphaEm1EnterBox: without bounds every start is inside.
+func yok2StrongWolfeMTAlphaEm1EnterBox(x *[1]float64, b *yok2StrongWolfeMTAlphaEm1Box) {}
+
 // yok2StrongWolfeMTAlphaEm1Finite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func yok2StrongWolfeMTAlphaEm1FiniteVec(x *[1]float64) bool {
 	return true
 }
 
-// yok2StrongWolfeMTAlphaEm1Differences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// yok2StrongWolfeMTAlphaEm1Differences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type yok2StrongWolfeMTAlphaEm1Differences struct {
 	ratio     [1]float64
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see yok2StrongWolfeMTAlphaEm1RoundingFloor)
+	bounds    yok2StrongWolfeMTAlphaEm1Box
 }
 
 // yok2StrongWolfeMTAlphaEm1Calibrate: an analytic gradient needs no intervals.
@@ -384,8 +392,9 @@ func yok2StrongWolfeMTAlphaEm1Calibrate(x *[1]float64, fx float64, diffs *yok2St
 }
 
 // yok2StrongWolfeMTAlphaEm1Derivative calls the user's gradient; it costs no objective calls.
-func yok2StrongWolfeMTAlphaEm1Derivative(x *[1]float64, fx float64, g *[1]float64, diffs *yok2StrongWolfeMTAlphaEm1Differences) {
+func yok2StrongWolfeMTAlphaEm1Derivative(x *[1]float64, fx float64, g *[1]float64, diffs *yok2StrongWolfeMTAlphaEm1Differences) int {
 	g[0] = YOK2Deriv(x[0])
+	return 0
 }
 
 // yok2StrongWolfeMTAlphaEm1Direction is steepest descent, d = −∇f(x): the direction of
@@ -401,8 +410,22 @@ func (s *yok2StrongWolfeMTAlphaEm1Direction) compute(g, d *[1]float64) {
 
 func (s *yok2StrongWolfeMTAlphaEm1Direction) update(step, change *[1]float64) {}
 
+// firstTrial is the scaled trial (yok2StrongWolfeMTAlphaEm1ScaledTrial), grown at most by
+// 2^(yok2StrongWolfeMTAlphaEm1StepTrials/2) over the previous step t. Steepest descent is the one
+// direction paired with backtracking that scales its first trial, and
+// backtracking can only shrink: after a step that nearly solved the
+// problem the slope collapses, the ratio can exceed the range its trials
+// halve through, and the search would end with no acceptable step. The
+// cap keeps at least half the trials below the previous step (a safeguard
+// of our own; cg, whose ratios can legitimately be that large on badly
+// scaled problems, always pairs with a Wolfe search, which expands and
+// zooms instead).
 func (s *yok2StrongWolfeMTAlphaEm1Direction) firstTrial(t, slope, now float64) float64 {
-	return yok2StrongWolfeMTAlphaEm1ScaledTrial(t, slope, now)
+	next := yok2StrongWolfeMTAlphaEm1ScaledTrial(t, slope, now)
+	if reach := t * math.Ldexp(1, yok2StrongWolfeMTAlphaEm1StepTrials/2); next > reach {
+		return reach
+	}
+	return next
 }
 
 // yok2StrongWolfeMTAlphaEm1Negate sets out = −x.
@@ -471,13 +494,13 @@ func yok2StrongWolfeMTAlphaEm1ConfirmGradient(x *[1]float64, fx float64, g, e *[
 		wide.ratio[i] *= 2
 	}
 	var doubled [1]float64
-	yok2StrongWolfeMTAlphaEm1Derivative(x, fx, g, diffs)
-	yok2StrongWolfeMTAlphaEm1Derivative(x, fx, &doubled, &wide)
+	calls += yok2StrongWolfeMTAlphaEm1Derivative(x, fx, g, diffs)
+	calls += yok2StrongWolfeMTAlphaEm1Derivative(x, fx, &doubled, &wide)
 	yok2StrongWolfeMTAlphaEm1GradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * yok2StrongWolfeMTAlphaEm1Abs(g[i]-doubled[i])
 	}
-	return calls + 2*yok2StrongWolfeMTAlphaEm1DerivativeCost, true
+	return calls, true
 }
 
 // yok2StrongWolfeMTAlphaEm1GradientError: the analytic gradient is taken as exact; its error is
@@ -519,18 +542,60 @@ func yok2StrongWolfeMTAlphaEm1DiagonalCurvature(x, g *[1]float64, diffs *yok2Str
 	var moved [1]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := yok2StrongWolfeMTAlphaEm1ProbeStep(xi, yok2StrongWolfeMTAlphaEm1SquareRoot(yok2StrongWolfeMTAlphaEm1UnitRoundoff)*yok2StrongWolfeMTAlphaEm1Larger(1, yok2StrongWolfeMTAlphaEm1Abs(xi)))
-		probe[i] = up
-		moved[0] = YOK2Deriv(probe[0])
-		h[i] = yok2StrongWolfeMTAlphaEm1Abs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := yok2StrongWolfeMTAlphaEm1CoordinateRange(i, diffs)
+		up, delta := yok2StrongWolfeMTAlphaEm1ProbeStep(xi, yok2StrongWolfeMTAlphaEm1OneSide(xi, yok2StrongWolfeMTAlphaEm1SquareRoot(yok2StrongWolfeMTAlphaEm1UnitRoundoff)*yok2StrongWolfeMTAlphaEm1Larger(1, yok2StrongWolfeMTAlphaEm1Abs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			moved[0] = YOK2Deriv(probe[0])
+			h[i] = yok2StrongWolfeMTAlphaEm1Abs(moved[i]-g[i]) / yok2StrongWolfeMTAlphaEm1Abs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// yok2StrongWolfeMTAlphaEm1ProbeStep returns x_i moved by h, and the step actually representable.
-func yok2StrongWolfeMTAlphaEm1ProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// yok2StrongWolfeMTAlphaEm1CoordinateRange: without bounds any probe is allowed.
+func yok2StrongWolfeMTAlphaEm1CoordinateRange(i int, diffs *yok2StrongWolfeMTAlphaEm1Differences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// yok2StrongWolfeMTAlphaEm1ProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func yok2StrongWolfeMTAlphaEm1ProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := yok2StrongWolfeMTAlphaEm1ClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// yok2StrongWolfeMTAlphaEm1ClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func yok2StrongWolfeMTAlphaEm1ClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// yok2StrongWolfeMTAlphaEm1OneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func yok2StrongWolfeMTAlphaEm1OneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // yok2StrongWolfeMTAlphaEm1SquareRoot returns √v.
@@ -546,6 +611,11 @@ func yok2StrongWolfeMTAlphaEm1Larger(a, b float64) float64 {
 		return a
 	}
 	return b
+}
+
+// yok2StrongWolfeMTAlphaEm1Stationarity measures the gradient itself.
+func yok2StrongWolfeMTAlphaEm1Stationarity(g, e, x *[1]float64, fx float64, b *yok2StrongWolfeMTAlphaEm1Box) (measure, floor float64) {
+	return yok2StrongWolfeMTAlphaEm1GradientMeasure(g, e, x, fx)
 }
 
 // yok2StrongWolfeMTAlphaEm1GradientMeasure is the scale-free measure
@@ -579,6 +649,14 @@ func yok2StrongWolfeMTAlphaEm1StepWithin(s, x *[1]float64, tol float64) bool {
 		}
 	}
 	return true
+}
+
+// yok2StrongWolfeMTAlphaEm1CurvaturePair: without bounds the pair is used as it is.
+func yok2StrongWolfeMTAlphaEm1CurvaturePair(s, y, x *[1]float64, b *yok2StrongWolfeMTAlphaEm1Box) {}
+
+// yok2StrongWolfeMTAlphaEm1SearchDirection is the direction's own.
+func yok2StrongWolfeMTAlphaEm1SearchDirection(dir *yok2StrongWolfeMTAlphaEm1Direction, x, g, d *[1]float64, b *yok2StrongWolfeMTAlphaEm1Box) {
+	dir.compute(g, d)
 }
 
 // yok2StrongWolfeMTAlphaEm1Dot returns aᵀb.
@@ -617,7 +695,10 @@ func yok2StrongWolfeMTAlphaEm1TinyStep(x, d *[1]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (yok2StrongWolfeMTAlphaEm1StepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -626,13 +707,17 @@ func yok2StrongWolfeMTAlphaEm1TinyStep(x, d *[1]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func yok2StrongWolfeMTAlphaEm1LineSearch(x *[1]float64, fx float64, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *yok2StrongWolfeMTAlphaEm1Differences) yok2StrongWolfeMTAlphaEm1LineResult {
+func yok2StrongWolfeMTAlphaEm1LineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *yok2StrongWolfeMTAlphaEm1Differences) yok2StrongWolfeMTAlphaEm1LineResult {
 	low := yok2StrongWolfeMTAlphaEm1LinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high yok2StrongWolfeMTAlphaEm1LinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                                         // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend yok2StrongWolfeMTAlphaEm1RiseTrend // of the trials failing sufficient decrease
+	var trend yok2StrongWolfeMTAlphaEm1RiseTrend                         // of the trials failing sufficient decrease
+	limit := yok2StrongWolfeMTAlphaEm1StepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < yok2StrongWolfeMTAlphaEm1StepTrials; trial++ {
 		if bracketed && yok2StrongWolfeMTAlphaEm1Abs(high.step-low.step) <= tiny {
@@ -642,12 +727,12 @@ func yok2StrongWolfeMTAlphaEm1LineSearch(x *[1]float64, fx float64, d *[1]float6
 			if low.step == 0 {
 				return yok2StrongWolfeMTAlphaEm1LineResult{calls: calls, rising: trend.contradicts(), end: yok2StrongWolfeMTAlphaEm1TinyOrExhausted(yok2StrongWolfeMTAlphaEm1Finite(high.value))}
 			}
-			return yok2StrongWolfeMTAlphaEm1AcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return yok2StrongWolfeMTAlphaEm1AcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return yok2StrongWolfeMTAlphaEm1LineResult{calls: calls, end: yok2StrongWolfeMTAlphaEm1SearchOutOfBudget}
 		}
-		yok2StrongWolfeMTAlphaEm1MoveTo(xt, x, t, d)
+		yok2StrongWolfeMTAlphaEm1TrialPoint(xt, x, t, d, &diffs.bounds)
 		current := yok2StrongWolfeMTAlphaEm1LinePoint{step: t, value: YOK2(xt[0])}
 		calls++
 		previous := low
@@ -658,8 +743,7 @@ func yok2StrongWolfeMTAlphaEm1LineSearch(x *[1]float64, fx float64, d *[1]float6
 			if calls+yok2StrongWolfeMTAlphaEm1DerivativeCost > budget {
 				return yok2StrongWolfeMTAlphaEm1LineResult{calls: calls, end: yok2StrongWolfeMTAlphaEm1SearchOutOfBudget}
 			}
-			yok2StrongWolfeMTAlphaEm1Derivative(xt, current.value, gt, diffs)
-			calls += yok2StrongWolfeMTAlphaEm1DerivativeCost
+			calls += yok2StrongWolfeMTAlphaEm1Derivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = yok2StrongWolfeMTAlphaEm1Dot(gt, d), true
 			switch {
 			case !yok2StrongWolfeMTAlphaEm1Finite(current.slope):
@@ -670,18 +754,22 @@ func yok2StrongWolfeMTAlphaEm1LineSearch(x *[1]float64, fx float64, d *[1]float6
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return yok2StrongWolfeMTAlphaEm1LineResult{step: t, value: current.value, calls: calls, gradient: true, end: yok2StrongWolfeMTAlphaEm1SearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = yok2StrongWolfeMTAlphaEm1ZoomTrial(&low, &high)
-		} else {
-			t = yok2StrongWolfeMTAlphaEm1ExpandTrial(&previous, &current)
+		} else if t = yok2StrongWolfeMTAlphaEm1ExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return yok2StrongWolfeMTAlphaEm1AcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return yok2StrongWolfeMTAlphaEm1AcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return yok2StrongWolfeMTAlphaEm1LineResult{calls: calls, rising: trend.contradicts(), end: yok2StrongWolfeMTAlphaEm1SearchExhausted}
 }
@@ -768,6 +856,11 @@ func yok2StrongWolfeMTAlphaEm1FaithfulStep(x, xt, d *[1]float64, t float64) bool
 	return true
 }
 
+// yok2StrongWolfeMTAlphaEm1StepCap: without bounds a step may be as long as the search wants.
+func yok2StrongWolfeMTAlphaEm1StepCap(x, d *[1]float64, tiny float64, b *yok2StrongWolfeMTAlphaEm1Box) float64 {
+	return math.Inf(1)
+}
+
 // yok2StrongWolfeMTAlphaEm1TinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -792,10 +885,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func yok2StrongWolfeMTAlphaEm1AcceptLow(x, d *[1]float64, low *yok2StrongWolfeMTAlphaEm1LinePoint, lowGradient *[1]float64, calls int, xt, gt *[1]float64) yok2StrongWolfeMTAlphaEm1LineResult {
-	yok2StrongWolfeMTAlphaEm1MoveTo(xt, x, low.step, d)
+func yok2StrongWolfeMTAlphaEm1AcceptLow(x, d *[1]float64, low *yok2StrongWolfeMTAlphaEm1LinePoint, lowGradient *[1]float64, calls int, xt, gt *[1]float64, diffs *yok2StrongWolfeMTAlphaEm1Differences) yok2StrongWolfeMTAlphaEm1LineResult {
+	yok2StrongWolfeMTAlphaEm1TrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return yok2StrongWolfeMTAlphaEm1LineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: yok2StrongWolfeMTAlphaEm1SearchAccepted}
+}
+
+// yok2StrongWolfeMTAlphaEm1TrialPoint is x + t·d.
+func yok2StrongWolfeMTAlphaEm1TrialPoint(out, x *[1]float64, t float64, d *[1]float64, b *yok2StrongWolfeMTAlphaEm1Box) {
+	yok2StrongWolfeMTAlphaEm1MoveTo(out, x, t, d)
 }
 
 // yok2StrongWolfeMTAlphaEm1MoveTo sets out = x + t·d.
@@ -850,21 +948,6 @@ func yok2StrongWolfeMTAlphaEm1ModelMinimizer(a, b *yok2StrongWolfeMTAlphaEm1Line
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, yok2StrongWolfeMTAlphaEm1Finite(t)
-}
-
-// yok2StrongWolfeMTAlphaEm1ClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func yok2StrongWolfeMTAlphaEm1ClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // yok2StrongWolfeMTAlphaEm1ExpandTrial picks a larger trial after current met sufficient decrease

@@ -88,6 +88,9 @@ func BealeBFGSAnalyticDefaultLimits() BealeBFGSAnalyticLimits {
 	}
 }
 
+// bealeBFGSAnalyticBox is empty: mgh.toml sets no bounds on BealeBFGSAnalytic.
+type bealeBFGSAnalyticBox struct{}
+
 // BealeBFGSAnalytic minimizes Beale from x0, as mgh.toml specifies.
 //
 // Direction bfgs: BFGS quasi-Newton with a dense inverse-Hessian approximation (dim² numbers).
@@ -105,7 +108,7 @@ func BealeBFGSAnalytic(x0 [2]float64) BealeBFGSAnalyticResult {
 
 // BealeBFGSAnalyticWithLimits is BealeBFGSAnalytic with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func BealeBFGSAnalyticWithLimits(x0 [2]float64, limits BealeBFGSAnalyticLimits) BealeBFGSAnalyticResult {
-	out := bealeBFGSAnalyticMinimize(x0, limits)
+	out := bealeBFGSAnalyticMinimize(x0, limits, bealeBFGSAnalyticBox{})
 	return BealeBFGSAnalyticResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func bealeBFGSAnalyticMinimize(x0 [2]float64, lim BealeBFGSAnalyticLimits) bealeBFGSAnalyticOutcome {
-	out := bealeBFGSAnalyticOutcome{x: x0, status: BealeBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
+func bealeBFGSAnalyticMinimize(x0 [2]float64, lim BealeBFGSAnalyticLimits, bounds bealeBFGSAnalyticBox) bealeBFGSAnalyticOutcome {
+	x := x0
+	bealeBFGSAnalyticEnterBox(&x, &bounds)
+	out := bealeBFGSAnalyticOutcome{x: x, status: BealeBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := Beale(&x)
 	out.f, out.evaluations = fx, 1
 	if !bealeBFGSAnalyticFinite(fx) || !bealeBFGSAnalyticFiniteVec(&x) {
 		out.status = BealeBFGSAnalyticNonFiniteStart
 		return out
 	}
-	var diffs bealeBFGSAnalyticDifferences
+	diffs := bealeBFGSAnalyticDifferences{bounds: bounds}
 	calls, ok := bealeBFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+bealeBFGSAnalyticDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [2]float64
-	bealeBFGSAnalyticDerivative(&x, fx, &g, &diffs)
-	out.evaluations += bealeBFGSAnalyticDerivativeCost
+	out.evaluations += bealeBFGSAnalyticDerivative(&x, fx, &g, &diffs)
 
 	if !bealeBFGSAnalyticFiniteVec(&g) {
 		out.status = BealeBFGSAnalyticNonFiniteGradient
@@ -211,7 +214,7 @@ func bealeBFGSAnalyticMinimize(x0 [2]float64, lim BealeBFGSAnalyticLimits) beale
 		case !confirmed:
 			bealeBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := bealeBFGSAnalyticGradientMeasure(&g, &e, &x, fx)
+		measure, floor := bealeBFGSAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, bealeBFGSAnalyticLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func bealeBFGSAnalyticMinimize(x0 [2]float64, lim BealeBFGSAnalyticLimits) beale
 			if rises >= 8 {
 				return best.ending(BealeBFGSAnalyticDiverged, out.iterations, out.evaluations)
 			}
+			bealeBFGSAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(BealeBFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		bealeBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := bealeBFGSAnalyticDot(&g, &d)
 		if !(now < 0) || !bealeBFGSAnalyticFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			bealeBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = bealeBFGSAnalyticDot(&g, &d)
 		}
 		first := float64(bealeBFGSAnalyticStepInitial)
@@ -267,7 +271,7 @@ func bealeBFGSAnalyticMinimize(x0 [2]float64, lim BealeBFGSAnalyticLimits) beale
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := bealeBFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := bealeBFGSAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := bealeBFGSAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case bealeBFGSAnalyticSearchOutOfBudget:
@@ -303,8 +307,7 @@ func bealeBFGSAnalyticMinimize(x0 [2]float64, lim BealeBFGSAnalyticLimits) beale
 				}
 				return best.ending(BealeBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			bealeBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += bealeBFGSAnalyticDerivativeCost
+			out.evaluations += bealeBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		bealeBFGSAnalyticDifference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o bealeBFGSAnalyticOutcome) ending(end BealeBFGSAnalyticStatus, iterations
 	return o
 }
 
+// bealeBFGSAnalyticEnterBox: without bounds every start is inside.
+func bealeBFGSAnalyticEnterBox(x *[2]float64, b *bealeBFGSAnalyticBox) {}
+
 // bealeBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func bealeBFGSAnalyticFiniteVec(x *[2]float64) bool {
 	return true
 }
 
-// bealeBFGSAnalyticDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// bealeBFGSAnalyticDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type bealeBFGSAnalyticDifferences struct {
 	ratio     [2]float64
 	curvature [2]float64
 	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see bealeBFGSAnalyticRoundingFloor)
+	bounds    bealeBFGSAnalyticBox
 }
 
 // bealeBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
@@ -384,8 +392,9 @@ func bealeBFGSAnalyticCalibrate(x *[2]float64, fx float64, diffs *bealeBFGSAnaly
 }
 
 // bealeBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func bealeBFGSAnalyticDerivative(x *[2]float64, fx float64, g *[2]float64, diffs *bealeBFGSAnalyticDifferences) {
+func bealeBFGSAnalyticDerivative(x *[2]float64, fx float64, g *[2]float64, diffs *bealeBFGSAnalyticDifferences) int {
 	BealeGrad(x, g)
+	return 0
 }
 
 // bealeBFGSAnalyticDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
@@ -525,13 +534,13 @@ func bealeBFGSAnalyticConfirmGradient(x *[2]float64, fx float64, g, e *[2]float6
 		wide.ratio[i] *= 2
 	}
 	var doubled [2]float64
-	bealeBFGSAnalyticDerivative(x, fx, g, diffs)
-	bealeBFGSAnalyticDerivative(x, fx, &doubled, &wide)
+	calls += bealeBFGSAnalyticDerivative(x, fx, g, diffs)
+	calls += bealeBFGSAnalyticDerivative(x, fx, &doubled, &wide)
 	bealeBFGSAnalyticGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * bealeBFGSAnalyticAbs(g[i]-doubled[i])
 	}
-	return calls + 2*bealeBFGSAnalyticDerivativeCost, true
+	return calls, true
 }
 
 // bealeBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
@@ -573,18 +582,60 @@ func bealeBFGSAnalyticDiagonalCurvature(x, g *[2]float64, diffs *bealeBFGSAnalyt
 	var moved [2]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := bealeBFGSAnalyticProbeStep(xi, bealeBFGSAnalyticSquareRoot(bealeBFGSAnalyticUnitRoundoff)*bealeBFGSAnalyticLarger(1, bealeBFGSAnalyticAbs(xi)))
-		probe[i] = up
-		BealeGrad(&probe, &moved)
-		h[i] = bealeBFGSAnalyticAbs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := bealeBFGSAnalyticCoordinateRange(i, diffs)
+		up, delta := bealeBFGSAnalyticProbeStep(xi, bealeBFGSAnalyticOneSide(xi, bealeBFGSAnalyticSquareRoot(bealeBFGSAnalyticUnitRoundoff)*bealeBFGSAnalyticLarger(1, bealeBFGSAnalyticAbs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			BealeGrad(&probe, &moved)
+			h[i] = bealeBFGSAnalyticAbs(moved[i]-g[i]) / bealeBFGSAnalyticAbs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// bealeBFGSAnalyticProbeStep returns x_i moved by h, and the step actually representable.
-func bealeBFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// bealeBFGSAnalyticCoordinateRange: without bounds any probe is allowed.
+func bealeBFGSAnalyticCoordinateRange(i int, diffs *bealeBFGSAnalyticDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// bealeBFGSAnalyticProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func bealeBFGSAnalyticProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := bealeBFGSAnalyticClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// bealeBFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func bealeBFGSAnalyticClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// bealeBFGSAnalyticOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func bealeBFGSAnalyticOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // bealeBFGSAnalyticSquareRoot returns √v.
@@ -600,6 +651,11 @@ func bealeBFGSAnalyticLarger(a, b float64) float64 {
 		return a
 	}
 	return b
+}
+
+// bealeBFGSAnalyticStationarity measures the gradient itself.
+func bealeBFGSAnalyticStationarity(g, e, x *[2]float64, fx float64, b *bealeBFGSAnalyticBox) (measure, floor float64) {
+	return bealeBFGSAnalyticGradientMeasure(g, e, x, fx)
 }
 
 // bealeBFGSAnalyticGradientMeasure is the scale-free measure
@@ -635,6 +691,14 @@ func bealeBFGSAnalyticStepWithin(s, x *[2]float64, tol float64) bool {
 	return true
 }
 
+// bealeBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
+func bealeBFGSAnalyticCurvaturePair(s, y, x *[2]float64, b *bealeBFGSAnalyticBox) {}
+
+// bealeBFGSAnalyticSearchDirection is the direction's own.
+func bealeBFGSAnalyticSearchDirection(dir *bealeBFGSAnalyticDirection, x, g, d *[2]float64, b *bealeBFGSAnalyticBox) {
+	dir.compute(g, d)
+}
+
 // bealeBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func bealeBFGSAnalyticTinyStep(x, d *[2]float64, tol float64) float64 {
@@ -662,7 +726,10 @@ func bealeBFGSAnalyticTinyStep(x, d *[2]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (bealeBFGSAnalyticStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -671,13 +738,17 @@ func bealeBFGSAnalyticTinyStep(x, d *[2]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func bealeBFGSAnalyticLineSearch(x *[2]float64, fx float64, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *bealeBFGSAnalyticDifferences) bealeBFGSAnalyticLineResult {
+func bealeBFGSAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *bealeBFGSAnalyticDifferences) bealeBFGSAnalyticLineResult {
 	low := bealeBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high bealeBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                 // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend bealeBFGSAnalyticRiseTrend // of the trials failing sufficient decrease
+	var trend bealeBFGSAnalyticRiseTrend                         // of the trials failing sufficient decrease
+	limit := bealeBFGSAnalyticStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < bealeBFGSAnalyticStepTrials; trial++ {
 		if bracketed && bealeBFGSAnalyticAbs(high.step-low.step) <= tiny {
@@ -687,12 +758,12 @@ func bealeBFGSAnalyticLineSearch(x *[2]float64, fx float64, d *[2]float64, slope
 			if low.step == 0 {
 				return bealeBFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: bealeBFGSAnalyticTinyOrExhausted(bealeBFGSAnalyticFinite(high.value))}
 			}
-			return bealeBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return bealeBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return bealeBFGSAnalyticLineResult{calls: calls, end: bealeBFGSAnalyticSearchOutOfBudget}
 		}
-		bealeBFGSAnalyticMoveTo(xt, x, t, d)
+		bealeBFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := bealeBFGSAnalyticLinePoint{step: t, value: Beale(xt)}
 		calls++
 		previous := low
@@ -703,8 +774,7 @@ func bealeBFGSAnalyticLineSearch(x *[2]float64, fx float64, d *[2]float64, slope
 			if calls+bealeBFGSAnalyticDerivativeCost > budget {
 				return bealeBFGSAnalyticLineResult{calls: calls, end: bealeBFGSAnalyticSearchOutOfBudget}
 			}
-			bealeBFGSAnalyticDerivative(xt, current.value, gt, diffs)
-			calls += bealeBFGSAnalyticDerivativeCost
+			calls += bealeBFGSAnalyticDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = bealeBFGSAnalyticDot(gt, d), true
 			switch {
 			case !bealeBFGSAnalyticFinite(current.slope):
@@ -715,18 +785,22 @@ func bealeBFGSAnalyticLineSearch(x *[2]float64, fx float64, d *[2]float64, slope
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return bealeBFGSAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: bealeBFGSAnalyticSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = bealeBFGSAnalyticZoomTrial(&low, &high)
-		} else {
-			t = bealeBFGSAnalyticExpandTrial(&previous, &current)
+		} else if t = bealeBFGSAnalyticExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return bealeBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return bealeBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return bealeBFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: bealeBFGSAnalyticSearchExhausted}
 }
@@ -813,6 +887,11 @@ func bealeBFGSAnalyticFaithfulStep(x, xt, d *[2]float64, t float64) bool {
 	return true
 }
 
+// bealeBFGSAnalyticStepCap: without bounds a step may be as long as the search wants.
+func bealeBFGSAnalyticStepCap(x, d *[2]float64, tiny float64, b *bealeBFGSAnalyticBox) float64 {
+	return math.Inf(1)
+}
+
 // bealeBFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -837,10 +916,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func bealeBFGSAnalyticAcceptLow(x, d *[2]float64, low *bealeBFGSAnalyticLinePoint, lowGradient *[2]float64, calls int, xt, gt *[2]float64) bealeBFGSAnalyticLineResult {
-	bealeBFGSAnalyticMoveTo(xt, x, low.step, d)
+func bealeBFGSAnalyticAcceptLow(x, d *[2]float64, low *bealeBFGSAnalyticLinePoint, lowGradient *[2]float64, calls int, xt, gt *[2]float64, diffs *bealeBFGSAnalyticDifferences) bealeBFGSAnalyticLineResult {
+	bealeBFGSAnalyticTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return bealeBFGSAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: bealeBFGSAnalyticSearchAccepted}
+}
+
+// bealeBFGSAnalyticTrialPoint is x + t·d.
+func bealeBFGSAnalyticTrialPoint(out, x *[2]float64, t float64, d *[2]float64, b *bealeBFGSAnalyticBox) {
+	bealeBFGSAnalyticMoveTo(out, x, t, d)
 }
 
 // bealeBFGSAnalyticMoveTo sets out = x + t·d.
@@ -895,21 +979,6 @@ func bealeBFGSAnalyticModelMinimizer(a, b *bealeBFGSAnalyticLinePoint) (t float6
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, bealeBFGSAnalyticFinite(t)
-}
-
-// bealeBFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func bealeBFGSAnalyticClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // bealeBFGSAnalyticExpandTrial picks a larger trial after current met sufficient decrease

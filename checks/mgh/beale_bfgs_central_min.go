@@ -88,6 +88,9 @@ func BealeBFGSCentralDefaultLimits() BealeBFGSCentralLimits {
 	}
 }
 
+// bealeBFGSCentralBox is empty: mgh.toml sets no bounds on BealeBFGSCentral.
+type bealeBFGSCentralBox struct{}
+
 // BealeBFGSCentral minimizes Beale from x0, as mgh.toml specifies.
 //
 // Direction bfgs: BFGS quasi-Newton with a dense inverse-Hessian approximation (dim² numbers).
@@ -105,7 +108,7 @@ func BealeBFGSCentral(x0 [2]float64) BealeBFGSCentralResult {
 
 // BealeBFGSCentralWithLimits is BealeBFGSCentral with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func BealeBFGSCentralWithLimits(x0 [2]float64, limits BealeBFGSCentralLimits) BealeBFGSCentralResult {
-	out := bealeBFGSCentralMinimize(x0, limits)
+	out := bealeBFGSCentralMinimize(x0, limits, bealeBFGSCentralBox{})
 	return BealeBFGSCentralResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func bealeBFGSCentralMinimize(x0 [2]float64, lim BealeBFGSCentralLimits) bealeBFGSCentralOutcome {
-	out := bealeBFGSCentralOutcome{x: x0, status: BealeBFGSCentralOutOfEvaluations, gradient: math.NaN()}
+func bealeBFGSCentralMinimize(x0 [2]float64, lim BealeBFGSCentralLimits, bounds bealeBFGSCentralBox) bealeBFGSCentralOutcome {
+	x := x0
+	bealeBFGSCentralEnterBox(&x, &bounds)
+	out := bealeBFGSCentralOutcome{x: x, status: BealeBFGSCentralOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := Beale(&x)
 	out.f, out.evaluations = fx, 1
 	if !bealeBFGSCentralFinite(fx) || !bealeBFGSCentralFiniteVec(&x) {
 		out.status = BealeBFGSCentralNonFiniteStart
 		return out
 	}
-	var diffs bealeBFGSCentralDifferences
+	diffs := bealeBFGSCentralDifferences{bounds: bounds}
 	calls, ok := bealeBFGSCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+bealeBFGSCentralDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [2]float64
-	bealeBFGSCentralDerivative(&x, fx, &g, &diffs)
-	out.evaluations += bealeBFGSCentralDerivativeCost
+	out.evaluations += bealeBFGSCentralDerivative(&x, fx, &g, &diffs)
 
 	if !bealeBFGSCentralFiniteVec(&g) {
 		out.status = BealeBFGSCentralNonFiniteGradient
@@ -211,7 +214,7 @@ func bealeBFGSCentralMinimize(x0 [2]float64, lim BealeBFGSCentralLimits) bealeBF
 		case !confirmed:
 			bealeBFGSCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := bealeBFGSCentralGradientMeasure(&g, &e, &x, fx)
+		measure, floor := bealeBFGSCentralStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, bealeBFGSCentralLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func bealeBFGSCentralMinimize(x0 [2]float64, lim BealeBFGSCentralLimits) bealeBF
 			if rises >= 8 {
 				return best.ending(BealeBFGSCentralDiverged, out.iterations, out.evaluations)
 			}
+			bealeBFGSCentralCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(BealeBFGSCentralOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		bealeBFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := bealeBFGSCentralDot(&g, &d)
 		if !(now < 0) || !bealeBFGSCentralFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			bealeBFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = bealeBFGSCentralDot(&g, &d)
 		}
 		first := float64(bealeBFGSCentralStepInitial)
@@ -267,7 +271,7 @@ func bealeBFGSCentralMinimize(x0 [2]float64, lim BealeBFGSCentralLimits) bealeBF
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := bealeBFGSCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := bealeBFGSCentralLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := bealeBFGSCentralLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case bealeBFGSCentralSearchOutOfBudget:
@@ -303,8 +307,7 @@ func bealeBFGSCentralMinimize(x0 [2]float64, lim BealeBFGSCentralLimits) bealeBF
 				}
 				return best.ending(BealeBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			bealeBFGSCentralDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += bealeBFGSCentralDerivativeCost
+			out.evaluations += bealeBFGSCentralDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		bealeBFGSCentralDifference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o bealeBFGSCentralOutcome) ending(end BealeBFGSCentralStatus, iterations, 
 	return o
 }
 
+// bealeBFGSCentralEnterBox: without bounds every start is inside.
+func bealeBFGSCentralEnterBox(x *[2]float64, b *bealeBFGSCentralBox) {}
+
 // bealeBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func bealeBFGSCentralFiniteVec(x *[2]float64) bool {
 	return true
 }
 
-// bealeBFGSCentralDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// bealeBFGSCentralDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type bealeBFGSCentralDifferences struct {
 	ratio     [2]float64
 	curvature [2]float64
 	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see bealeBFGSCentralRoundingFloor)
+	bounds    bealeBFGSCentralBox
 }
 
 // bealeBFGSCentralCalibrate chooses each central-difference interval from the
@@ -397,19 +405,45 @@ func bealeBFGSCentralCalibrate(x *[2]float64, fx float64, diffs *bealeBFGSCentra
 	var slope [2]float64
 	scale := bealeBFGSCentralAbs(fx)
 	quarter := bealeBFGSCentralSquareRoot(bealeBFGSCentralSquareRoot(bealeBFGSCentralUnitRoundoff)) // u^(1/4)
+	calls := 0
 	for i := range probe {
-		if 4*(i+1) > budget {
-			return 4 * i, false
+		if calls+4 > budget {
+			return calls, false
 		}
 		xi := probe[i]
 		bar := quarter * bealeBFGSCentralLarger(1, bealeBFGSCentralAbs(xi))
+		lower, upper := bealeBFGSCentralCoordinateRange(i, diffs)
+		if xi+2*bar > upper || xi-2*bar < lower {
+			// At a bound: three probes on the side with room, at h, 2h
+			// and 3h, for f‴ ≈ (f(3h) − 3f(2h) + 3f(h) − f(0))/h³ (the
+			// third forward difference).
+			h := bealeBFGSCentralOneSide(xi, bar, 3, lower, upper)
+			if h == 0 {
+				continue // fixed by equal bounds
+			}
+			var f [3]float64
+			for k := range f {
+				probe[i], _ = bealeBFGSCentralProbeStep(xi, float64(k+1)*h, lower, upper)
+				f[k] = Beale(&probe)
+				scale = bealeBFGSCentralLarger(scale, bealeBFGSCentralMagnitude(f[k]))
+			}
+			probe[i] = xi
+			calls += 3
+			if bealeBFGSCentralFinite(f[0]) && bealeBFGSCentralFinite(f[1]) && bealeBFGSCentralFinite(f[2]) {
+				diffs.curvature[i] = bealeBFGSCentralAbs(f[2]-3*f[1]+3*f[0]-fx) / bealeBFGSCentralAbs(h*h*h)
+				diffs.second[i] = bealeBFGSCentralAbs(fx-2*f[0]+f[1]) / (h * h)
+				slope[i] = (-3*fx + 4*f[0] - f[1]) / (2 * h)
+			}
+			continue
+		}
 		var f [4]float64
 		for k, m := range [4]float64{2, 1, -1, -2} {
-			probe[i], _ = bealeBFGSCentralProbeStep(xi, m*bar)
+			probe[i], _ = bealeBFGSCentralProbeStep(xi, m*bar, lower, upper)
 			f[k] = Beale(&probe)
 			scale = bealeBFGSCentralLarger(scale, bealeBFGSCentralMagnitude(f[k]))
 		}
 		probe[i] = xi
+		calls += 4
 		if bealeBFGSCentralFinite(f[0]) && bealeBFGSCentralFinite(f[1]) && bealeBFGSCentralFinite(f[2]) && bealeBFGSCentralFinite(f[3]) {
 			diffs.curvature[i] = bealeBFGSCentralAbs(f[0]-2*f[1]+2*f[2]-f[3]) / (2 * bar * bar * bar)
 			diffs.second[i] = bealeBFGSCentralAbs(f[1]-2*fx+f[2]) / (bar * bar)
@@ -428,7 +462,7 @@ func bealeBFGSCentralCalibrate(x *[2]float64, fx float64, diffs *bealeBFGSCentra
 		diffs.ratio[i] = bealeBFGSCentralClampBetween(h, 64*bealeBFGSCentralUnitRoundoff*s, bar) / s
 		diffs.curvature[i] = third
 	}
-	return 4 * len(probe), true
+	return calls, true
 }
 
 // bealeBFGSCentralAbs returns |v|.
@@ -454,10 +488,48 @@ func bealeBFGSCentralLarger(a, b float64) float64 {
 	return b
 }
 
-// bealeBFGSCentralProbeStep returns x_i moved by h, and the step actually representable.
-func bealeBFGSCentralProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// bealeBFGSCentralCoordinateRange: without bounds any probe is allowed.
+func bealeBFGSCentralCoordinateRange(i int, diffs *bealeBFGSCentralDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// bealeBFGSCentralOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func bealeBFGSCentralOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
+}
+
+// bealeBFGSCentralProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func bealeBFGSCentralProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := bealeBFGSCentralClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// bealeBFGSCentralClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func bealeBFGSCentralClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
 }
 
 // bealeBFGSCentralMagnitude is |v| for a finite v and 0 otherwise: a probe that fell
@@ -493,42 +565,85 @@ func bealeBFGSCentralCubeRoot(v float64) float64 {
 	return math.Cbrt(v)
 }
 
-// bealeBFGSCentralClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func bealeBFGSCentralClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
-}
-
 // bealeBFGSCentralDerivative approximates the gradient by central differences,
 //
 //	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),
 //
 // with the intervals bealeBFGSCentralCalibrate chose, h_i = ratio_i·max(1, |x_i|)
-// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls; fx is
-// not needed.
-func bealeBFGSCentralDerivative(x *[2]float64, fx float64, g *[2]float64, diffs *bealeBFGSCentralDifferences) {
+// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls. Where
+// a bound leaves no room on one side, the three-point endpoint formula on
+// the other side takes its place at the same cost (see parabola); a
+// variable fixed by equal bounds costs nothing and gets 0.
+func bealeBFGSCentralDerivative(x *[2]float64, fx float64, g *[2]float64, diffs *bealeBFGSCentralDifferences) int {
 	probe := *x
+	calls := 0
 	for i := range probe {
 		xi := probe[i]
-		h := diffs.ratio[i] * bealeBFGSCentralLarger(1, bealeBFGSCentralAbs(xi))
-		up, _ := bealeBFGSCentralProbeStep(xi, h)
-		down, _ := bealeBFGSCentralProbeStep(xi, -h)
-		probe[i] = up
-		fUp := Beale(&probe)
-		probe[i] = down
-		fDown := Beale(&probe)
-		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
-		probe[i] = xi
+		h, oneSided := bealeBFGSCentralCentralInterval(x, i, diffs)
+		lower, upper := bealeBFGSCentralCoordinateRange(i, diffs)
+		switch {
+		case h == 0:
+			g[i] = 0 // fixed by equal bounds
+			continue
+		case oneSided:
+			g[i], _, _ = bealeBFGSCentralSidedProbes(&probe, i, fx, h, lower, upper) // the three-point endpoint formula
+		default:
+			up, _ := bealeBFGSCentralProbeStep(xi, h, lower, upper)
+			down, _ := bealeBFGSCentralProbeStep(xi, -h, lower, upper)
+			probe[i] = up
+			fUp := Beale(&probe)
+			probe[i] = down
+			fDown := Beale(&probe)
+			g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+			probe[i] = xi
+		}
+		calls += 2
 	}
+	return calls
+}
+
+// bealeBFGSCentralCentralInterval is the interval of coordinate i at x, ratio_i·max(1,
+// |x_i|), and whether the box leaves room for probes on both sides; when
+// it does not, the interval is signed towards the side with room for
+// probes at h and 2h, and shortened where the box is narrower than that
+// (see bealeBFGSCentralOneSide).
+func bealeBFGSCentralCentralInterval(x *[2]float64, i int, diffs *bealeBFGSCentralDifferences) (h float64, oneSided bool) {
+	lower, upper := bealeBFGSCentralCoordinateRange(i, diffs)
+	h = diffs.ratio[i] * bealeBFGSCentralLarger(1, bealeBFGSCentralAbs(x[i]))
+	if x[i]+h <= upper && x[i]-h >= lower {
+		return h, false
+	}
+	return bealeBFGSCentralOneSide(x[i], h, 2, lower, upper), true
+}
+
+// bealeBFGSCentralSidedProbes evaluates f at x moved along coordinate i by h and by 2h,
+// kept within [lower, upper], and returns the slope and second derivative
+// of the parabola through them and (x, fx) (see parabola), and the larger
+// magnitude of the two values.
+func bealeBFGSCentralSidedProbes(probe *[2]float64, i int, fx, h, lower, upper float64) (slope, second, size float64) {
+	xi := probe[i]
+	near, a := bealeBFGSCentralProbeStep(xi, h, lower, upper)
+	far, b := bealeBFGSCentralProbeStep(xi, 2*h, lower, upper)
+	probe[i] = near
+	fNear := Beale(probe)
+	probe[i] = far
+	fFar := Beale(probe)
+	probe[i] = xi
+	slope, second = bealeBFGSCentralParabola(fx, a, fNear, b, fFar)
+	return slope, second, bealeBFGSCentralLarger(bealeBFGSCentralMagnitude(fNear), bealeBFGSCentralMagnitude(fFar))
+}
+
+// bealeBFGSCentralParabola returns the first and second derivatives at 0 of the parabola
+// through (0, f0), (a, fa) and (b, fb), for probes on one side of a bound.
+// With b = 2a they are the three-point endpoint formulas
+// f′ ≈ (−3f0 + 4fa − fb)/(2a), error a²|f‴|/3, and
+// f″ ≈ (f0 − 2fa + fb)/a² (Burden & Faires, Numerical Analysis, §4.1
+// and §4.1's second-derivative formulas, from memory); written for unequal
+// a and b, so that the representable steps can be used.
+func bealeBFGSCentralParabola(f0, a, fa, b, fb float64) (slope, second float64) {
+	slope = -(a+b)/(a*b)*f0 + b/(a*(b-a))*fa - a/(b*(b-a))*fb
+	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
+	return slope, second
 }
 
 // bealeBFGSCentralDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
@@ -668,13 +783,13 @@ func bealeBFGSCentralConfirmGradient(x *[2]float64, fx float64, g, e *[2]float64
 		wide.ratio[i] *= 2
 	}
 	var doubled [2]float64
-	bealeBFGSCentralDerivative(x, fx, g, diffs)
-	bealeBFGSCentralDerivative(x, fx, &doubled, &wide)
+	calls += bealeBFGSCentralDerivative(x, fx, g, diffs)
+	calls += bealeBFGSCentralDerivative(x, fx, &doubled, &wide)
 	bealeBFGSCentralGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * bealeBFGSCentralAbs(g[i]-doubled[i])
 	}
-	return calls + 2*bealeBFGSCentralDerivativeCost, true
+	return calls, true
 }
 
 // bealeBFGSCentralGradientError bounds each central difference's error by twice its
@@ -684,8 +799,16 @@ func bealeBFGSCentralConfirmGradient(x *[2]float64, fx float64, g, e *[2]float64
 func bealeBFGSCentralGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *bealeBFGSCentralDifferences) {
 	noise := bealeBFGSCentralNoiseLevel(x, fx, g)
 	for i := range e {
-		h := diffs.ratio[i] * bealeBFGSCentralLarger(1, bealeBFGSCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		h, oneSided := bealeBFGSCentralCentralInterval(x, i, diffs)
+		h = bealeBFGSCentralAbs(h)
+		switch {
+		case h == 0:
+			e[i] = 0 // fixed by equal bounds
+		case oneSided:
+			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+		default:
+			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		}
 	}
 }
 
@@ -707,6 +830,11 @@ func bealeBFGSCentralRoundingFloor(x, g, e *[2]float64, diffs *bealeBFGSCentralD
 // calibration, which bealeBFGSCentralConfirmGradient has just made at x.
 func bealeBFGSCentralDiagonalCurvature(x, g *[2]float64, diffs *bealeBFGSCentralDifferences, h *[2]float64) {
 	*h = diffs.second
+}
+
+// bealeBFGSCentralStationarity measures the gradient itself.
+func bealeBFGSCentralStationarity(g, e, x *[2]float64, fx float64, b *bealeBFGSCentralBox) (measure, floor float64) {
+	return bealeBFGSCentralGradientMeasure(g, e, x, fx)
 }
 
 // bealeBFGSCentralGradientMeasure is the scale-free measure
@@ -742,6 +870,14 @@ func bealeBFGSCentralStepWithin(s, x *[2]float64, tol float64) bool {
 	return true
 }
 
+// bealeBFGSCentralCurvaturePair: without bounds the pair is used as it is.
+func bealeBFGSCentralCurvaturePair(s, y, x *[2]float64, b *bealeBFGSCentralBox) {}
+
+// bealeBFGSCentralSearchDirection is the direction's own.
+func bealeBFGSCentralSearchDirection(dir *bealeBFGSCentralDirection, x, g, d *[2]float64, b *bealeBFGSCentralBox) {
+	dir.compute(g, d)
+}
+
 // bealeBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func bealeBFGSCentralTinyStep(x, d *[2]float64, tol float64) float64 {
@@ -769,7 +905,10 @@ func bealeBFGSCentralTinyStep(x, d *[2]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (bealeBFGSCentralStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -778,13 +917,17 @@ func bealeBFGSCentralTinyStep(x, d *[2]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func bealeBFGSCentralLineSearch(x *[2]float64, fx float64, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *bealeBFGSCentralDifferences) bealeBFGSCentralLineResult {
+func bealeBFGSCentralLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *bealeBFGSCentralDifferences) bealeBFGSCentralLineResult {
 	low := bealeBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high bealeBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend bealeBFGSCentralRiseTrend // of the trials failing sufficient decrease
+	var trend bealeBFGSCentralRiseTrend                         // of the trials failing sufficient decrease
+	limit := bealeBFGSCentralStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < bealeBFGSCentralStepTrials; trial++ {
 		if bracketed && bealeBFGSCentralAbs(high.step-low.step) <= tiny {
@@ -794,12 +937,12 @@ func bealeBFGSCentralLineSearch(x *[2]float64, fx float64, d *[2]float64, slope,
 			if low.step == 0 {
 				return bealeBFGSCentralLineResult{calls: calls, rising: trend.contradicts(), end: bealeBFGSCentralTinyOrExhausted(bealeBFGSCentralFinite(high.value))}
 			}
-			return bealeBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return bealeBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return bealeBFGSCentralLineResult{calls: calls, end: bealeBFGSCentralSearchOutOfBudget}
 		}
-		bealeBFGSCentralMoveTo(xt, x, t, d)
+		bealeBFGSCentralTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := bealeBFGSCentralLinePoint{step: t, value: Beale(xt)}
 		calls++
 		previous := low
@@ -810,8 +953,7 @@ func bealeBFGSCentralLineSearch(x *[2]float64, fx float64, d *[2]float64, slope,
 			if calls+bealeBFGSCentralDerivativeCost > budget {
 				return bealeBFGSCentralLineResult{calls: calls, end: bealeBFGSCentralSearchOutOfBudget}
 			}
-			bealeBFGSCentralDerivative(xt, current.value, gt, diffs)
-			calls += bealeBFGSCentralDerivativeCost
+			calls += bealeBFGSCentralDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = bealeBFGSCentralDot(gt, d), true
 			switch {
 			case !bealeBFGSCentralFinite(current.slope):
@@ -822,18 +964,22 @@ func bealeBFGSCentralLineSearch(x *[2]float64, fx float64, d *[2]float64, slope,
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return bealeBFGSCentralLineResult{step: t, value: current.value, calls: calls, gradient: true, end: bealeBFGSCentralSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = bealeBFGSCentralZoomTrial(&low, &high)
-		} else {
-			t = bealeBFGSCentralExpandTrial(&previous, &current)
+		} else if t = bealeBFGSCentralExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return bealeBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return bealeBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return bealeBFGSCentralLineResult{calls: calls, rising: trend.contradicts(), end: bealeBFGSCentralSearchExhausted}
 }
@@ -920,6 +1066,11 @@ func bealeBFGSCentralFaithfulStep(x, xt, d *[2]float64, t float64) bool {
 	return true
 }
 
+// bealeBFGSCentralStepCap: without bounds a step may be as long as the search wants.
+func bealeBFGSCentralStepCap(x, d *[2]float64, tiny float64, b *bealeBFGSCentralBox) float64 {
+	return math.Inf(1)
+}
+
 // bealeBFGSCentralTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -944,10 +1095,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func bealeBFGSCentralAcceptLow(x, d *[2]float64, low *bealeBFGSCentralLinePoint, lowGradient *[2]float64, calls int, xt, gt *[2]float64) bealeBFGSCentralLineResult {
-	bealeBFGSCentralMoveTo(xt, x, low.step, d)
+func bealeBFGSCentralAcceptLow(x, d *[2]float64, low *bealeBFGSCentralLinePoint, lowGradient *[2]float64, calls int, xt, gt *[2]float64, diffs *bealeBFGSCentralDifferences) bealeBFGSCentralLineResult {
+	bealeBFGSCentralTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return bealeBFGSCentralLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: bealeBFGSCentralSearchAccepted}
+}
+
+// bealeBFGSCentralTrialPoint is x + t·d.
+func bealeBFGSCentralTrialPoint(out, x *[2]float64, t float64, d *[2]float64, b *bealeBFGSCentralBox) {
+	bealeBFGSCentralMoveTo(out, x, t, d)
 }
 
 // bealeBFGSCentralMoveTo sets out = x + t·d.

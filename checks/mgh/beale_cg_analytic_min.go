@@ -88,6 +88,9 @@ func BealeCGAnalyticDefaultLimits() BealeCGAnalyticLimits {
 	}
 }
 
+// bealeCGAnalyticBox is empty: mgh.toml sets no bounds on BealeCGAnalytic.
+type bealeCGAnalyticBox struct{}
+
 // BealeCGAnalytic minimizes Beale from x0, as mgh.toml specifies.
 //
 // Direction cg: nonlinear conjugate gradients, Polak–Ribière clipped at zero (PR+), restarted every dim steps.
@@ -105,7 +108,7 @@ func BealeCGAnalytic(x0 [2]float64) BealeCGAnalyticResult {
 
 // BealeCGAnalyticWithLimits is BealeCGAnalytic with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func BealeCGAnalyticWithLimits(x0 [2]float64, limits BealeCGAnalyticLimits) BealeCGAnalyticResult {
-	out := bealeCGAnalyticMinimize(x0, limits)
+	out := bealeCGAnalyticMinimize(x0, limits, bealeCGAnalyticBox{})
 	return BealeCGAnalyticResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func bealeCGAnalyticMinimize(x0 [2]float64, lim BealeCGAnalyticLimits) bealeCGAnalyticOutcome {
-	out := bealeCGAnalyticOutcome{x: x0, status: BealeCGAnalyticOutOfEvaluations, gradient: math.NaN()}
+func bealeCGAnalyticMinimize(x0 [2]float64, lim BealeCGAnalyticLimits, bounds bealeCGAnalyticBox) bealeCGAnalyticOutcome {
+	x := x0
+	bealeCGAnalyticEnterBox(&x, &bounds)
+	out := bealeCGAnalyticOutcome{x: x, status: BealeCGAnalyticOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := Beale(&x)
 	out.f, out.evaluations = fx, 1
 	if !bealeCGAnalyticFinite(fx) || !bealeCGAnalyticFiniteVec(&x) {
 		out.status = BealeCGAnalyticNonFiniteStart
 		return out
 	}
-	var diffs bealeCGAnalyticDifferences
+	diffs := bealeCGAnalyticDifferences{bounds: bounds}
 	calls, ok := bealeCGAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+bealeCGAnalyticDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [2]float64
-	bealeCGAnalyticDerivative(&x, fx, &g, &diffs)
-	out.evaluations += bealeCGAnalyticDerivativeCost
+	out.evaluations += bealeCGAnalyticDerivative(&x, fx, &g, &diffs)
 
 	if !bealeCGAnalyticFiniteVec(&g) {
 		out.status = BealeCGAnalyticNonFiniteGradient
@@ -211,7 +214,7 @@ func bealeCGAnalyticMinimize(x0 [2]float64, lim BealeCGAnalyticLimits) bealeCGAn
 		case !confirmed:
 			bealeCGAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := bealeCGAnalyticGradientMeasure(&g, &e, &x, fx)
+		measure, floor := bealeCGAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, bealeCGAnalyticLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func bealeCGAnalyticMinimize(x0 [2]float64, lim BealeCGAnalyticLimits) bealeCGAn
 			if rises >= 8 {
 				return best.ending(BealeCGAnalyticDiverged, out.iterations, out.evaluations)
 			}
+			bealeCGAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(BealeCGAnalyticOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		bealeCGAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := bealeCGAnalyticDot(&g, &d)
 		if !(now < 0) || !bealeCGAnalyticFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			bealeCGAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = bealeCGAnalyticDot(&g, &d)
 		}
 		first := float64(bealeCGAnalyticStepInitial)
@@ -267,7 +271,7 @@ func bealeCGAnalyticMinimize(x0 [2]float64, lim BealeCGAnalyticLimits) bealeCGAn
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := bealeCGAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := bealeCGAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := bealeCGAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case bealeCGAnalyticSearchOutOfBudget:
@@ -303,8 +307,7 @@ func bealeCGAnalyticMinimize(x0 [2]float64, lim BealeCGAnalyticLimits) bealeCGAn
 				}
 				return best.ending(BealeCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			bealeCGAnalyticDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += bealeCGAnalyticDerivativeCost
+			out.evaluations += bealeCGAnalyticDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		bealeCGAnalyticDifference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o bealeCGAnalyticOutcome) ending(end BealeCGAnalyticStatus, iterations, ev
 	return o
 }
 
+// bealeCGAnalyticEnterBox: without bounds every start is inside.
+func bealeCGAnalyticEnterBox(x *[2]float64, b *bealeCGAnalyticBox) {}
+
 // bealeCGAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func bealeCGAnalyticFiniteVec(x *[2]float64) bool {
 	return true
 }
 
-// bealeCGAnalyticDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// bealeCGAnalyticDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type bealeCGAnalyticDifferences struct {
 	ratio     [2]float64
 	curvature [2]float64
 	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see bealeCGAnalyticRoundingFloor)
+	bounds    bealeCGAnalyticBox
 }
 
 // bealeCGAnalyticCalibrate: an analytic gradient needs no intervals.
@@ -384,8 +392,9 @@ func bealeCGAnalyticCalibrate(x *[2]float64, fx float64, diffs *bealeCGAnalyticD
 }
 
 // bealeCGAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func bealeCGAnalyticDerivative(x *[2]float64, fx float64, g *[2]float64, diffs *bealeCGAnalyticDifferences) {
+func bealeCGAnalyticDerivative(x *[2]float64, fx float64, g *[2]float64, diffs *bealeCGAnalyticDifferences) int {
 	BealeGrad(x, g)
+	return 0
 }
 
 // bealeCGAnalyticDirection is nonlinear conjugate gradients with the Polak–Ribière
@@ -517,13 +526,13 @@ func bealeCGAnalyticConfirmGradient(x *[2]float64, fx float64, g, e *[2]float64,
 		wide.ratio[i] *= 2
 	}
 	var doubled [2]float64
-	bealeCGAnalyticDerivative(x, fx, g, diffs)
-	bealeCGAnalyticDerivative(x, fx, &doubled, &wide)
+	calls += bealeCGAnalyticDerivative(x, fx, g, diffs)
+	calls += bealeCGAnalyticDerivative(x, fx, &doubled, &wide)
 	bealeCGAnalyticGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * bealeCGAnalyticAbs(g[i]-doubled[i])
 	}
-	return calls + 2*bealeCGAnalyticDerivativeCost, true
+	return calls, true
 }
 
 // bealeCGAnalyticGradientError: the analytic gradient is taken as exact; its error is
@@ -565,23 +574,70 @@ func bealeCGAnalyticDiagonalCurvature(x, g *[2]float64, diffs *bealeCGAnalyticDi
 	var moved [2]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := bealeCGAnalyticProbeStep(xi, bealeCGAnalyticSquareRoot(bealeCGAnalyticUnitRoundoff)*bealeCGAnalyticLarger(1, bealeCGAnalyticAbs(xi)))
-		probe[i] = up
-		BealeGrad(&probe, &moved)
-		h[i] = bealeCGAnalyticAbs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := bealeCGAnalyticCoordinateRange(i, diffs)
+		up, delta := bealeCGAnalyticProbeStep(xi, bealeCGAnalyticOneSide(xi, bealeCGAnalyticSquareRoot(bealeCGAnalyticUnitRoundoff)*bealeCGAnalyticLarger(1, bealeCGAnalyticAbs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			BealeGrad(&probe, &moved)
+			h[i] = bealeCGAnalyticAbs(moved[i]-g[i]) / bealeCGAnalyticAbs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// bealeCGAnalyticProbeStep returns x_i moved by h, and the step actually representable.
-func bealeCGAnalyticProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// bealeCGAnalyticCoordinateRange: without bounds any probe is allowed.
+func bealeCGAnalyticCoordinateRange(i int, diffs *bealeCGAnalyticDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// bealeCGAnalyticProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func bealeCGAnalyticProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := bealeCGAnalyticClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// bealeCGAnalyticClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func bealeCGAnalyticClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// bealeCGAnalyticOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func bealeCGAnalyticOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // bealeCGAnalyticSquareRoot returns √v.
 func bealeCGAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// bealeCGAnalyticStationarity measures the gradient itself.
+func bealeCGAnalyticStationarity(g, e, x *[2]float64, fx float64, b *bealeCGAnalyticBox) (measure, floor float64) {
+	return bealeCGAnalyticGradientMeasure(g, e, x, fx)
 }
 
 // bealeCGAnalyticGradientMeasure is the scale-free measure
@@ -617,6 +673,14 @@ func bealeCGAnalyticStepWithin(s, x *[2]float64, tol float64) bool {
 	return true
 }
 
+// bealeCGAnalyticCurvaturePair: without bounds the pair is used as it is.
+func bealeCGAnalyticCurvaturePair(s, y, x *[2]float64, b *bealeCGAnalyticBox) {}
+
+// bealeCGAnalyticSearchDirection is the direction's own.
+func bealeCGAnalyticSearchDirection(dir *bealeCGAnalyticDirection, x, g, d *[2]float64, b *bealeCGAnalyticBox) {
+	dir.compute(g, d)
+}
+
 // bealeCGAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func bealeCGAnalyticTinyStep(x, d *[2]float64, tol float64) float64 {
@@ -644,7 +708,10 @@ func bealeCGAnalyticTinyStep(x, d *[2]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (bealeCGAnalyticStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -653,13 +720,17 @@ func bealeCGAnalyticTinyStep(x, d *[2]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func bealeCGAnalyticLineSearch(x *[2]float64, fx float64, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *bealeCGAnalyticDifferences) bealeCGAnalyticLineResult {
+func bealeCGAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *bealeCGAnalyticDifferences) bealeCGAnalyticLineResult {
 	low := bealeCGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high bealeCGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                               // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend bealeCGAnalyticRiseTrend // of the trials failing sufficient decrease
+	var trend bealeCGAnalyticRiseTrend                         // of the trials failing sufficient decrease
+	limit := bealeCGAnalyticStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < bealeCGAnalyticStepTrials; trial++ {
 		if bracketed && bealeCGAnalyticAbs(high.step-low.step) <= tiny {
@@ -669,12 +740,12 @@ func bealeCGAnalyticLineSearch(x *[2]float64, fx float64, d *[2]float64, slope, 
 			if low.step == 0 {
 				return bealeCGAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: bealeCGAnalyticTinyOrExhausted(bealeCGAnalyticFinite(high.value))}
 			}
-			return bealeCGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return bealeCGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return bealeCGAnalyticLineResult{calls: calls, end: bealeCGAnalyticSearchOutOfBudget}
 		}
-		bealeCGAnalyticMoveTo(xt, x, t, d)
+		bealeCGAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := bealeCGAnalyticLinePoint{step: t, value: Beale(xt)}
 		calls++
 		previous := low
@@ -685,8 +756,7 @@ func bealeCGAnalyticLineSearch(x *[2]float64, fx float64, d *[2]float64, slope, 
 			if calls+bealeCGAnalyticDerivativeCost > budget {
 				return bealeCGAnalyticLineResult{calls: calls, end: bealeCGAnalyticSearchOutOfBudget}
 			}
-			bealeCGAnalyticDerivative(xt, current.value, gt, diffs)
-			calls += bealeCGAnalyticDerivativeCost
+			calls += bealeCGAnalyticDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = bealeCGAnalyticDot(gt, d), true
 			switch {
 			case !bealeCGAnalyticFinite(current.slope):
@@ -697,18 +767,22 @@ func bealeCGAnalyticLineSearch(x *[2]float64, fx float64, d *[2]float64, slope, 
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return bealeCGAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: bealeCGAnalyticSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = bealeCGAnalyticZoomTrial(&low, &high)
-		} else {
-			t = bealeCGAnalyticExpandTrial(&previous, &current)
+		} else if t = bealeCGAnalyticExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return bealeCGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return bealeCGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return bealeCGAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: bealeCGAnalyticSearchExhausted}
 }
@@ -795,6 +869,11 @@ func bealeCGAnalyticFaithfulStep(x, xt, d *[2]float64, t float64) bool {
 	return true
 }
 
+// bealeCGAnalyticStepCap: without bounds a step may be as long as the search wants.
+func bealeCGAnalyticStepCap(x, d *[2]float64, tiny float64, b *bealeCGAnalyticBox) float64 {
+	return math.Inf(1)
+}
+
 // bealeCGAnalyticTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -819,10 +898,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func bealeCGAnalyticAcceptLow(x, d *[2]float64, low *bealeCGAnalyticLinePoint, lowGradient *[2]float64, calls int, xt, gt *[2]float64) bealeCGAnalyticLineResult {
-	bealeCGAnalyticMoveTo(xt, x, low.step, d)
+func bealeCGAnalyticAcceptLow(x, d *[2]float64, low *bealeCGAnalyticLinePoint, lowGradient *[2]float64, calls int, xt, gt *[2]float64, diffs *bealeCGAnalyticDifferences) bealeCGAnalyticLineResult {
+	bealeCGAnalyticTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return bealeCGAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: bealeCGAnalyticSearchAccepted}
+}
+
+// bealeCGAnalyticTrialPoint is x + t·d.
+func bealeCGAnalyticTrialPoint(out, x *[2]float64, t float64, d *[2]float64, b *bealeCGAnalyticBox) {
+	bealeCGAnalyticMoveTo(out, x, t, d)
 }
 
 // bealeCGAnalyticMoveTo sets out = x + t·d.
@@ -877,21 +961,6 @@ func bealeCGAnalyticModelMinimizer(a, b *bealeCGAnalyticLinePoint) (t float64, o
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, bealeCGAnalyticFinite(t)
-}
-
-// bealeCGAnalyticClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func bealeCGAnalyticClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // bealeCGAnalyticExpandTrial picks a larger trial after current met sufficient decrease

@@ -88,6 +88,9 @@ func BealeCGCentralDefaultLimits() BealeCGCentralLimits {
 	}
 }
 
+// bealeCGCentralBox is empty: mgh.toml sets no bounds on BealeCGCentral.
+type bealeCGCentralBox struct{}
+
 // BealeCGCentral minimizes Beale from x0, as mgh.toml specifies.
 //
 // Direction cg: nonlinear conjugate gradients, Polak–Ribière clipped at zero (PR+), restarted every dim steps.
@@ -105,7 +108,7 @@ func BealeCGCentral(x0 [2]float64) BealeCGCentralResult {
 
 // BealeCGCentralWithLimits is BealeCGCentral with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func BealeCGCentralWithLimits(x0 [2]float64, limits BealeCGCentralLimits) BealeCGCentralResult {
-	out := bealeCGCentralMinimize(x0, limits)
+	out := bealeCGCentralMinimize(x0, limits, bealeCGCentralBox{})
 	return BealeCGCentralResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func bealeCGCentralMinimize(x0 [2]float64, lim BealeCGCentralLimits) bealeCGCentralOutcome {
-	out := bealeCGCentralOutcome{x: x0, status: BealeCGCentralOutOfEvaluations, gradient: math.NaN()}
+func bealeCGCentralMinimize(x0 [2]float64, lim BealeCGCentralLimits, bounds bealeCGCentralBox) bealeCGCentralOutcome {
+	x := x0
+	bealeCGCentralEnterBox(&x, &bounds)
+	out := bealeCGCentralOutcome{x: x, status: BealeCGCentralOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := Beale(&x)
 	out.f, out.evaluations = fx, 1
 	if !bealeCGCentralFinite(fx) || !bealeCGCentralFiniteVec(&x) {
 		out.status = BealeCGCentralNonFiniteStart
 		return out
 	}
-	var diffs bealeCGCentralDifferences
+	diffs := bealeCGCentralDifferences{bounds: bounds}
 	calls, ok := bealeCGCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+bealeCGCentralDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [2]float64
-	bealeCGCentralDerivative(&x, fx, &g, &diffs)
-	out.evaluations += bealeCGCentralDerivativeCost
+	out.evaluations += bealeCGCentralDerivative(&x, fx, &g, &diffs)
 
 	if !bealeCGCentralFiniteVec(&g) {
 		out.status = BealeCGCentralNonFiniteGradient
@@ -211,7 +214,7 @@ func bealeCGCentralMinimize(x0 [2]float64, lim BealeCGCentralLimits) bealeCGCent
 		case !confirmed:
 			bealeCGCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := bealeCGCentralGradientMeasure(&g, &e, &x, fx)
+		measure, floor := bealeCGCentralStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, bealeCGCentralLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func bealeCGCentralMinimize(x0 [2]float64, lim BealeCGCentralLimits) bealeCGCent
 			if rises >= 8 {
 				return best.ending(BealeCGCentralDiverged, out.iterations, out.evaluations)
 			}
+			bealeCGCentralCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(BealeCGCentralOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		bealeCGCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := bealeCGCentralDot(&g, &d)
 		if !(now < 0) || !bealeCGCentralFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			bealeCGCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = bealeCGCentralDot(&g, &d)
 		}
 		first := float64(bealeCGCentralStepInitial)
@@ -267,7 +271,7 @@ func bealeCGCentralMinimize(x0 [2]float64, lim BealeCGCentralLimits) bealeCGCent
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := bealeCGCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := bealeCGCentralLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := bealeCGCentralLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case bealeCGCentralSearchOutOfBudget:
@@ -303,8 +307,7 @@ func bealeCGCentralMinimize(x0 [2]float64, lim BealeCGCentralLimits) bealeCGCent
 				}
 				return best.ending(BealeCGCentralOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			bealeCGCentralDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += bealeCGCentralDerivativeCost
+			out.evaluations += bealeCGCentralDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		bealeCGCentralDifference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o bealeCGCentralOutcome) ending(end BealeCGCentralStatus, iterations, eval
 	return o
 }
 
+// bealeCGCentralEnterBox: without bounds every start is inside.
+func bealeCGCentralEnterBox(x *[2]float64, b *bealeCGCentralBox) {}
+
 // bealeCGCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func bealeCGCentralFiniteVec(x *[2]float64) bool {
 	return true
 }
 
-// bealeCGCentralDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// bealeCGCentralDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type bealeCGCentralDifferences struct {
 	ratio     [2]float64
 	curvature [2]float64
 	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see bealeCGCentralRoundingFloor)
+	bounds    bealeCGCentralBox
 }
 
 // bealeCGCentralCalibrate chooses each central-difference interval from the
@@ -397,19 +405,45 @@ func bealeCGCentralCalibrate(x *[2]float64, fx float64, diffs *bealeCGCentralDif
 	var slope [2]float64
 	scale := bealeCGCentralAbs(fx)
 	quarter := bealeCGCentralSquareRoot(bealeCGCentralSquareRoot(bealeCGCentralUnitRoundoff)) // u^(1/4)
+	calls := 0
 	for i := range probe {
-		if 4*(i+1) > budget {
-			return 4 * i, false
+		if calls+4 > budget {
+			return calls, false
 		}
 		xi := probe[i]
 		bar := quarter * bealeCGCentralLarger(1, bealeCGCentralAbs(xi))
+		lower, upper := bealeCGCentralCoordinateRange(i, diffs)
+		if xi+2*bar > upper || xi-2*bar < lower {
+			// At a bound: three probes on the side with room, at h, 2h
+			// and 3h, for f‴ ≈ (f(3h) − 3f(2h) + 3f(h) − f(0))/h³ (the
+			// third forward difference).
+			h := bealeCGCentralOneSide(xi, bar, 3, lower, upper)
+			if h == 0 {
+				continue // fixed by equal bounds
+			}
+			var f [3]float64
+			for k := range f {
+				probe[i], _ = bealeCGCentralProbeStep(xi, float64(k+1)*h, lower, upper)
+				f[k] = Beale(&probe)
+				scale = bealeCGCentralLarger(scale, bealeCGCentralMagnitude(f[k]))
+			}
+			probe[i] = xi
+			calls += 3
+			if bealeCGCentralFinite(f[0]) && bealeCGCentralFinite(f[1]) && bealeCGCentralFinite(f[2]) {
+				diffs.curvature[i] = bealeCGCentralAbs(f[2]-3*f[1]+3*f[0]-fx) / bealeCGCentralAbs(h*h*h)
+				diffs.second[i] = bealeCGCentralAbs(fx-2*f[0]+f[1]) / (h * h)
+				slope[i] = (-3*fx + 4*f[0] - f[1]) / (2 * h)
+			}
+			continue
+		}
 		var f [4]float64
 		for k, m := range [4]float64{2, 1, -1, -2} {
-			probe[i], _ = bealeCGCentralProbeStep(xi, m*bar)
+			probe[i], _ = bealeCGCentralProbeStep(xi, m*bar, lower, upper)
 			f[k] = Beale(&probe)
 			scale = bealeCGCentralLarger(scale, bealeCGCentralMagnitude(f[k]))
 		}
 		probe[i] = xi
+		calls += 4
 		if bealeCGCentralFinite(f[0]) && bealeCGCentralFinite(f[1]) && bealeCGCentralFinite(f[2]) && bealeCGCentralFinite(f[3]) {
 			diffs.curvature[i] = bealeCGCentralAbs(f[0]-2*f[1]+2*f[2]-f[3]) / (2 * bar * bar * bar)
 			diffs.second[i] = bealeCGCentralAbs(f[1]-2*fx+f[2]) / (bar * bar)
@@ -428,7 +462,7 @@ func bealeCGCentralCalibrate(x *[2]float64, fx float64, diffs *bealeCGCentralDif
 		diffs.ratio[i] = bealeCGCentralClampBetween(h, 64*bealeCGCentralUnitRoundoff*s, bar) / s
 		diffs.curvature[i] = third
 	}
-	return 4 * len(probe), true
+	return calls, true
 }
 
 // bealeCGCentralAbs returns |v|.
@@ -454,10 +488,48 @@ func bealeCGCentralLarger(a, b float64) float64 {
 	return b
 }
 
-// bealeCGCentralProbeStep returns x_i moved by h, and the step actually representable.
-func bealeCGCentralProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// bealeCGCentralCoordinateRange: without bounds any probe is allowed.
+func bealeCGCentralCoordinateRange(i int, diffs *bealeCGCentralDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// bealeCGCentralOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func bealeCGCentralOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
+}
+
+// bealeCGCentralProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func bealeCGCentralProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := bealeCGCentralClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// bealeCGCentralClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func bealeCGCentralClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
 }
 
 // bealeCGCentralMagnitude is |v| for a finite v and 0 otherwise: a probe that fell
@@ -493,42 +565,85 @@ func bealeCGCentralCubeRoot(v float64) float64 {
 	return math.Cbrt(v)
 }
 
-// bealeCGCentralClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func bealeCGCentralClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
-}
-
 // bealeCGCentralDerivative approximates the gradient by central differences,
 //
 //	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),
 //
 // with the intervals bealeCGCentralCalibrate chose, h_i = ratio_i·max(1, |x_i|)
-// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls; fx is
-// not needed.
-func bealeCGCentralDerivative(x *[2]float64, fx float64, g *[2]float64, diffs *bealeCGCentralDifferences) {
+// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls. Where
+// a bound leaves no room on one side, the three-point endpoint formula on
+// the other side takes its place at the same cost (see parabola); a
+// variable fixed by equal bounds costs nothing and gets 0.
+func bealeCGCentralDerivative(x *[2]float64, fx float64, g *[2]float64, diffs *bealeCGCentralDifferences) int {
 	probe := *x
+	calls := 0
 	for i := range probe {
 		xi := probe[i]
-		h := diffs.ratio[i] * bealeCGCentralLarger(1, bealeCGCentralAbs(xi))
-		up, _ := bealeCGCentralProbeStep(xi, h)
-		down, _ := bealeCGCentralProbeStep(xi, -h)
-		probe[i] = up
-		fUp := Beale(&probe)
-		probe[i] = down
-		fDown := Beale(&probe)
-		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
-		probe[i] = xi
+		h, oneSided := bealeCGCentralCentralInterval(x, i, diffs)
+		lower, upper := bealeCGCentralCoordinateRange(i, diffs)
+		switch {
+		case h == 0:
+			g[i] = 0 // fixed by equal bounds
+			continue
+		case oneSided:
+			g[i], _, _ = bealeCGCentralSidedProbes(&probe, i, fx, h, lower, upper) // the three-point endpoint formula
+		default:
+			up, _ := bealeCGCentralProbeStep(xi, h, lower, upper)
+			down, _ := bealeCGCentralProbeStep(xi, -h, lower, upper)
+			probe[i] = up
+			fUp := Beale(&probe)
+			probe[i] = down
+			fDown := Beale(&probe)
+			g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+			probe[i] = xi
+		}
+		calls += 2
 	}
+	return calls
+}
+
+// bealeCGCentralCentralInterval is the interval of coordinate i at x, ratio_i·max(1,
+// |x_i|), and whether the box leaves room for probes on both sides; when
+// it does not, the interval is signed towards the side with room for
+// probes at h and 2h, and shortened where the box is narrower than that
+// (see bealeCGCentralOneSide).
+func bealeCGCentralCentralInterval(x *[2]float64, i int, diffs *bealeCGCentralDifferences) (h float64, oneSided bool) {
+	lower, upper := bealeCGCentralCoordinateRange(i, diffs)
+	h = diffs.ratio[i] * bealeCGCentralLarger(1, bealeCGCentralAbs(x[i]))
+	if x[i]+h <= upper && x[i]-h >= lower {
+		return h, false
+	}
+	return bealeCGCentralOneSide(x[i], h, 2, lower, upper), true
+}
+
+// bealeCGCentralSidedProbes evaluates f at x moved along coordinate i by h and by 2h,
+// kept within [lower, upper], and returns the slope and second derivative
+// of the parabola through them and (x, fx) (see parabola), and the larger
+// magnitude of the two values.
+func bealeCGCentralSidedProbes(probe *[2]float64, i int, fx, h, lower, upper float64) (slope, second, size float64) {
+	xi := probe[i]
+	near, a := bealeCGCentralProbeStep(xi, h, lower, upper)
+	far, b := bealeCGCentralProbeStep(xi, 2*h, lower, upper)
+	probe[i] = near
+	fNear := Beale(probe)
+	probe[i] = far
+	fFar := Beale(probe)
+	probe[i] = xi
+	slope, second = bealeCGCentralParabola(fx, a, fNear, b, fFar)
+	return slope, second, bealeCGCentralLarger(bealeCGCentralMagnitude(fNear), bealeCGCentralMagnitude(fFar))
+}
+
+// bealeCGCentralParabola returns the first and second derivatives at 0 of the parabola
+// through (0, f0), (a, fa) and (b, fb), for probes on one side of a bound.
+// With b = 2a they are the three-point endpoint formulas
+// f′ ≈ (−3f0 + 4fa − fb)/(2a), error a²|f‴|/3, and
+// f″ ≈ (f0 − 2fa + fb)/a² (Burden & Faires, Numerical Analysis, §4.1
+// and §4.1's second-derivative formulas, from memory); written for unequal
+// a and b, so that the representable steps can be used.
+func bealeCGCentralParabola(f0, a, fa, b, fb float64) (slope, second float64) {
+	slope = -(a+b)/(a*b)*f0 + b/(a*(b-a))*fa - a/(b*(b-a))*fb
+	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
+	return slope, second
 }
 
 // bealeCGCentralDirection is nonlinear conjugate gradients with the Polak–Ribière
@@ -650,13 +765,13 @@ func bealeCGCentralConfirmGradient(x *[2]float64, fx float64, g, e *[2]float64, 
 		wide.ratio[i] *= 2
 	}
 	var doubled [2]float64
-	bealeCGCentralDerivative(x, fx, g, diffs)
-	bealeCGCentralDerivative(x, fx, &doubled, &wide)
+	calls += bealeCGCentralDerivative(x, fx, g, diffs)
+	calls += bealeCGCentralDerivative(x, fx, &doubled, &wide)
 	bealeCGCentralGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * bealeCGCentralAbs(g[i]-doubled[i])
 	}
-	return calls + 2*bealeCGCentralDerivativeCost, true
+	return calls, true
 }
 
 // bealeCGCentralGradientError bounds each central difference's error by twice its
@@ -666,8 +781,16 @@ func bealeCGCentralConfirmGradient(x *[2]float64, fx float64, g, e *[2]float64, 
 func bealeCGCentralGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *bealeCGCentralDifferences) {
 	noise := bealeCGCentralNoiseLevel(x, fx, g)
 	for i := range e {
-		h := diffs.ratio[i] * bealeCGCentralLarger(1, bealeCGCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		h, oneSided := bealeCGCentralCentralInterval(x, i, diffs)
+		h = bealeCGCentralAbs(h)
+		switch {
+		case h == 0:
+			e[i] = 0 // fixed by equal bounds
+		case oneSided:
+			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+		default:
+			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		}
 	}
 }
 
@@ -689,6 +812,11 @@ func bealeCGCentralRoundingFloor(x, g, e *[2]float64, diffs *bealeCGCentralDiffe
 // calibration, which bealeCGCentralConfirmGradient has just made at x.
 func bealeCGCentralDiagonalCurvature(x, g *[2]float64, diffs *bealeCGCentralDifferences, h *[2]float64) {
 	*h = diffs.second
+}
+
+// bealeCGCentralStationarity measures the gradient itself.
+func bealeCGCentralStationarity(g, e, x *[2]float64, fx float64, b *bealeCGCentralBox) (measure, floor float64) {
+	return bealeCGCentralGradientMeasure(g, e, x, fx)
 }
 
 // bealeCGCentralGradientMeasure is the scale-free measure
@@ -724,6 +852,14 @@ func bealeCGCentralStepWithin(s, x *[2]float64, tol float64) bool {
 	return true
 }
 
+// bealeCGCentralCurvaturePair: without bounds the pair is used as it is.
+func bealeCGCentralCurvaturePair(s, y, x *[2]float64, b *bealeCGCentralBox) {}
+
+// bealeCGCentralSearchDirection is the direction's own.
+func bealeCGCentralSearchDirection(dir *bealeCGCentralDirection, x, g, d *[2]float64, b *bealeCGCentralBox) {
+	dir.compute(g, d)
+}
+
 // bealeCGCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func bealeCGCentralTinyStep(x, d *[2]float64, tol float64) float64 {
@@ -751,7 +887,10 @@ func bealeCGCentralTinyStep(x, d *[2]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (bealeCGCentralStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -760,13 +899,17 @@ func bealeCGCentralTinyStep(x, d *[2]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func bealeCGCentralLineSearch(x *[2]float64, fx float64, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *bealeCGCentralDifferences) bealeCGCentralLineResult {
+func bealeCGCentralLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *bealeCGCentralDifferences) bealeCGCentralLineResult {
 	low := bealeCGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high bealeCGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                              // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend bealeCGCentralRiseTrend // of the trials failing sufficient decrease
+	var trend bealeCGCentralRiseTrend                         // of the trials failing sufficient decrease
+	limit := bealeCGCentralStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < bealeCGCentralStepTrials; trial++ {
 		if bracketed && bealeCGCentralAbs(high.step-low.step) <= tiny {
@@ -776,12 +919,12 @@ func bealeCGCentralLineSearch(x *[2]float64, fx float64, d *[2]float64, slope, f
 			if low.step == 0 {
 				return bealeCGCentralLineResult{calls: calls, rising: trend.contradicts(), end: bealeCGCentralTinyOrExhausted(bealeCGCentralFinite(high.value))}
 			}
-			return bealeCGCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return bealeCGCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return bealeCGCentralLineResult{calls: calls, end: bealeCGCentralSearchOutOfBudget}
 		}
-		bealeCGCentralMoveTo(xt, x, t, d)
+		bealeCGCentralTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := bealeCGCentralLinePoint{step: t, value: Beale(xt)}
 		calls++
 		previous := low
@@ -792,8 +935,7 @@ func bealeCGCentralLineSearch(x *[2]float64, fx float64, d *[2]float64, slope, f
 			if calls+bealeCGCentralDerivativeCost > budget {
 				return bealeCGCentralLineResult{calls: calls, end: bealeCGCentralSearchOutOfBudget}
 			}
-			bealeCGCentralDerivative(xt, current.value, gt, diffs)
-			calls += bealeCGCentralDerivativeCost
+			calls += bealeCGCentralDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = bealeCGCentralDot(gt, d), true
 			switch {
 			case !bealeCGCentralFinite(current.slope):
@@ -804,18 +946,22 @@ func bealeCGCentralLineSearch(x *[2]float64, fx float64, d *[2]float64, slope, f
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return bealeCGCentralLineResult{step: t, value: current.value, calls: calls, gradient: true, end: bealeCGCentralSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = bealeCGCentralZoomTrial(&low, &high)
-		} else {
-			t = bealeCGCentralExpandTrial(&previous, &current)
+		} else if t = bealeCGCentralExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return bealeCGCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return bealeCGCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return bealeCGCentralLineResult{calls: calls, rising: trend.contradicts(), end: bealeCGCentralSearchExhausted}
 }
@@ -902,6 +1048,11 @@ func bealeCGCentralFaithfulStep(x, xt, d *[2]float64, t float64) bool {
 	return true
 }
 
+// bealeCGCentralStepCap: without bounds a step may be as long as the search wants.
+func bealeCGCentralStepCap(x, d *[2]float64, tiny float64, b *bealeCGCentralBox) float64 {
+	return math.Inf(1)
+}
+
 // bealeCGCentralTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -926,10 +1077,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func bealeCGCentralAcceptLow(x, d *[2]float64, low *bealeCGCentralLinePoint, lowGradient *[2]float64, calls int, xt, gt *[2]float64) bealeCGCentralLineResult {
-	bealeCGCentralMoveTo(xt, x, low.step, d)
+func bealeCGCentralAcceptLow(x, d *[2]float64, low *bealeCGCentralLinePoint, lowGradient *[2]float64, calls int, xt, gt *[2]float64, diffs *bealeCGCentralDifferences) bealeCGCentralLineResult {
+	bealeCGCentralTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return bealeCGCentralLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: bealeCGCentralSearchAccepted}
+}
+
+// bealeCGCentralTrialPoint is x + t·d.
+func bealeCGCentralTrialPoint(out, x *[2]float64, t float64, d *[2]float64, b *bealeCGCentralBox) {
+	bealeCGCentralMoveTo(out, x, t, d)
 }
 
 // bealeCGCentralMoveTo sets out = x + t·d.

@@ -88,6 +88,9 @@ func BealeLBFGSAnalyticDefaultLimits() BealeLBFGSAnalyticLimits {
 	}
 }
 
+// bealeLBFGSAnalyticBox is empty: mgh.toml sets no bounds on BealeLBFGSAnalytic.
+type bealeLBFGSAnalyticBox struct{}
+
 // BealeLBFGSAnalytic minimizes Beale from x0, as mgh.toml specifies.
 //
 // Direction lbfgs: limited-memory BFGS: the last `memory` pairs, two-loop recursion (2·memory·dim numbers).
@@ -105,7 +108,7 @@ func BealeLBFGSAnalytic(x0 [2]float64) BealeLBFGSAnalyticResult {
 
 // BealeLBFGSAnalyticWithLimits is BealeLBFGSAnalytic with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func BealeLBFGSAnalyticWithLimits(x0 [2]float64, limits BealeLBFGSAnalyticLimits) BealeLBFGSAnalyticResult {
-	out := bealeLBFGSAnalyticMinimize(x0, limits)
+	out := bealeLBFGSAnalyticMinimize(x0, limits, bealeLBFGSAnalyticBox{})
 	return BealeLBFGSAnalyticResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -159,27 +162,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func bealeLBFGSAnalyticMinimize(x0 [2]float64, lim BealeLBFGSAnalyticLimits) bealeLBFGSAnalyticOutcome {
-	out := bealeLBFGSAnalyticOutcome{x: x0, status: BealeLBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
+func bealeLBFGSAnalyticMinimize(x0 [2]float64, lim BealeLBFGSAnalyticLimits, bounds bealeLBFGSAnalyticBox) bealeLBFGSAnalyticOutcome {
+	x := x0
+	bealeLBFGSAnalyticEnterBox(&x, &bounds)
+	out := bealeLBFGSAnalyticOutcome{x: x, status: BealeLBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := Beale(&x)
 	out.f, out.evaluations = fx, 1
 	if !bealeLBFGSAnalyticFinite(fx) || !bealeLBFGSAnalyticFiniteVec(&x) {
 		out.status = BealeLBFGSAnalyticNonFiniteStart
 		return out
 	}
-	var diffs bealeLBFGSAnalyticDifferences
+	diffs := bealeLBFGSAnalyticDifferences{bounds: bounds}
 	calls, ok := bealeLBFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+bealeLBFGSAnalyticDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [2]float64
-	bealeLBFGSAnalyticDerivative(&x, fx, &g, &diffs)
-	out.evaluations += bealeLBFGSAnalyticDerivativeCost
+	out.evaluations += bealeLBFGSAnalyticDerivative(&x, fx, &g, &diffs)
 
 	if !bealeLBFGSAnalyticFiniteVec(&g) {
 		out.status = BealeLBFGSAnalyticNonFiniteGradient
@@ -212,7 +215,7 @@ func bealeLBFGSAnalyticMinimize(x0 [2]float64, lim BealeLBFGSAnalyticLimits) bea
 		case !confirmed:
 			bealeLBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := bealeLBFGSAnalyticGradientMeasure(&g, &e, &x, fx)
+		measure, floor := bealeLBFGSAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, bealeLBFGSAnalyticLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -251,16 +254,17 @@ func bealeLBFGSAnalyticMinimize(x0 [2]float64, lim BealeLBFGSAnalyticLimits) bea
 			if rises >= 8 {
 				return best.ending(BealeLBFGSAnalyticDiverged, out.iterations, out.evaluations)
 			}
+			bealeLBFGSAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(BealeLBFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		bealeLBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := bealeLBFGSAnalyticDot(&g, &d)
 		if !(now < 0) || !bealeLBFGSAnalyticFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			bealeLBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = bealeLBFGSAnalyticDot(&g, &d)
 		}
 		first := float64(bealeLBFGSAnalyticStepInitial)
@@ -268,7 +272,7 @@ func bealeLBFGSAnalyticMinimize(x0 [2]float64, lim BealeLBFGSAnalyticLimits) bea
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := bealeLBFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := bealeLBFGSAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := bealeLBFGSAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case bealeLBFGSAnalyticSearchOutOfBudget:
@@ -304,8 +308,7 @@ func bealeLBFGSAnalyticMinimize(x0 [2]float64, lim BealeLBFGSAnalyticLimits) bea
 				}
 				return best.ending(BealeLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			bealeLBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += bealeLBFGSAnalyticDerivativeCost
+			out.evaluations += bealeLBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		bealeLBFGSAnalyticDifference(&s, &xt, &x)
@@ -346,6 +349,9 @@ func (o bealeLBFGSAnalyticOutcome) ending(end BealeLBFGSAnalyticStatus, iteratio
 	return o
 }
 
+// bealeLBFGSAnalyticEnterBox: without bounds every start is inside.
+func bealeLBFGSAnalyticEnterBox(x *[2]float64, b *bealeLBFGSAnalyticBox) {}
+
 // bealeLBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -368,15 +374,17 @@ func bealeLBFGSAnalyticFiniteVec(x *[2]float64) bool {
 	return true
 }
 
-// bealeLBFGSAnalyticDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// bealeLBFGSAnalyticDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type bealeLBFGSAnalyticDifferences struct {
 	ratio     [2]float64
 	curvature [2]float64
 	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see bealeLBFGSAnalyticRoundingFloor)
+	bounds    bealeLBFGSAnalyticBox
 }
 
 // bealeLBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
@@ -385,8 +393,9 @@ func bealeLBFGSAnalyticCalibrate(x *[2]float64, fx float64, diffs *bealeLBFGSAna
 }
 
 // bealeLBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func bealeLBFGSAnalyticDerivative(x *[2]float64, fx float64, g *[2]float64, diffs *bealeLBFGSAnalyticDifferences) {
+func bealeLBFGSAnalyticDerivative(x *[2]float64, fx float64, g *[2]float64, diffs *bealeLBFGSAnalyticDifferences) int {
 	BealeGrad(x, g)
+	return 0
 }
 
 // bealeLBFGSAnalyticDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
@@ -551,13 +560,13 @@ func bealeLBFGSAnalyticConfirmGradient(x *[2]float64, fx float64, g, e *[2]float
 		wide.ratio[i] *= 2
 	}
 	var doubled [2]float64
-	bealeLBFGSAnalyticDerivative(x, fx, g, diffs)
-	bealeLBFGSAnalyticDerivative(x, fx, &doubled, &wide)
+	calls += bealeLBFGSAnalyticDerivative(x, fx, g, diffs)
+	calls += bealeLBFGSAnalyticDerivative(x, fx, &doubled, &wide)
 	bealeLBFGSAnalyticGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * bealeLBFGSAnalyticAbs(g[i]-doubled[i])
 	}
-	return calls + 2*bealeLBFGSAnalyticDerivativeCost, true
+	return calls, true
 }
 
 // bealeLBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
@@ -599,18 +608,60 @@ func bealeLBFGSAnalyticDiagonalCurvature(x, g *[2]float64, diffs *bealeLBFGSAnal
 	var moved [2]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := bealeLBFGSAnalyticProbeStep(xi, bealeLBFGSAnalyticSquareRoot(bealeLBFGSAnalyticUnitRoundoff)*bealeLBFGSAnalyticLarger(1, bealeLBFGSAnalyticAbs(xi)))
-		probe[i] = up
-		BealeGrad(&probe, &moved)
-		h[i] = bealeLBFGSAnalyticAbs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := bealeLBFGSAnalyticCoordinateRange(i, diffs)
+		up, delta := bealeLBFGSAnalyticProbeStep(xi, bealeLBFGSAnalyticOneSide(xi, bealeLBFGSAnalyticSquareRoot(bealeLBFGSAnalyticUnitRoundoff)*bealeLBFGSAnalyticLarger(1, bealeLBFGSAnalyticAbs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			BealeGrad(&probe, &moved)
+			h[i] = bealeLBFGSAnalyticAbs(moved[i]-g[i]) / bealeLBFGSAnalyticAbs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// bealeLBFGSAnalyticProbeStep returns x_i moved by h, and the step actually representable.
-func bealeLBFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// bealeLBFGSAnalyticCoordinateRange: without bounds any probe is allowed.
+func bealeLBFGSAnalyticCoordinateRange(i int, diffs *bealeLBFGSAnalyticDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// bealeLBFGSAnalyticProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func bealeLBFGSAnalyticProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := bealeLBFGSAnalyticClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// bealeLBFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func bealeLBFGSAnalyticClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// bealeLBFGSAnalyticOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func bealeLBFGSAnalyticOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // bealeLBFGSAnalyticSquareRoot returns √v.
@@ -626,6 +677,11 @@ func bealeLBFGSAnalyticLarger(a, b float64) float64 {
 		return a
 	}
 	return b
+}
+
+// bealeLBFGSAnalyticStationarity measures the gradient itself.
+func bealeLBFGSAnalyticStationarity(g, e, x *[2]float64, fx float64, b *bealeLBFGSAnalyticBox) (measure, floor float64) {
+	return bealeLBFGSAnalyticGradientMeasure(g, e, x, fx)
 }
 
 // bealeLBFGSAnalyticGradientMeasure is the scale-free measure
@@ -661,6 +717,14 @@ func bealeLBFGSAnalyticStepWithin(s, x *[2]float64, tol float64) bool {
 	return true
 }
 
+// bealeLBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
+func bealeLBFGSAnalyticCurvaturePair(s, y, x *[2]float64, b *bealeLBFGSAnalyticBox) {}
+
+// bealeLBFGSAnalyticSearchDirection is the direction's own.
+func bealeLBFGSAnalyticSearchDirection(dir *bealeLBFGSAnalyticDirection, x, g, d *[2]float64, b *bealeLBFGSAnalyticBox) {
+	dir.compute(g, d)
+}
+
 // bealeLBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func bealeLBFGSAnalyticTinyStep(x, d *[2]float64, tol float64) float64 {
@@ -688,7 +752,10 @@ func bealeLBFGSAnalyticTinyStep(x, d *[2]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (bealeLBFGSAnalyticStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -697,13 +764,17 @@ func bealeLBFGSAnalyticTinyStep(x, d *[2]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func bealeLBFGSAnalyticLineSearch(x *[2]float64, fx float64, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *bealeLBFGSAnalyticDifferences) bealeLBFGSAnalyticLineResult {
+func bealeLBFGSAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *bealeLBFGSAnalyticDifferences) bealeLBFGSAnalyticLineResult {
 	low := bealeLBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high bealeLBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                  // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend bealeLBFGSAnalyticRiseTrend // of the trials failing sufficient decrease
+	var trend bealeLBFGSAnalyticRiseTrend                         // of the trials failing sufficient decrease
+	limit := bealeLBFGSAnalyticStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < bealeLBFGSAnalyticStepTrials; trial++ {
 		if bracketed && bealeLBFGSAnalyticAbs(high.step-low.step) <= tiny {
@@ -713,12 +784,12 @@ func bealeLBFGSAnalyticLineSearch(x *[2]float64, fx float64, d *[2]float64, slop
 			if low.step == 0 {
 				return bealeLBFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: bealeLBFGSAnalyticTinyOrExhausted(bealeLBFGSAnalyticFinite(high.value))}
 			}
-			return bealeLBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return bealeLBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return bealeLBFGSAnalyticLineResult{calls: calls, end: bealeLBFGSAnalyticSearchOutOfBudget}
 		}
-		bealeLBFGSAnalyticMoveTo(xt, x, t, d)
+		bealeLBFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := bealeLBFGSAnalyticLinePoint{step: t, value: Beale(xt)}
 		calls++
 		previous := low
@@ -729,8 +800,7 @@ func bealeLBFGSAnalyticLineSearch(x *[2]float64, fx float64, d *[2]float64, slop
 			if calls+bealeLBFGSAnalyticDerivativeCost > budget {
 				return bealeLBFGSAnalyticLineResult{calls: calls, end: bealeLBFGSAnalyticSearchOutOfBudget}
 			}
-			bealeLBFGSAnalyticDerivative(xt, current.value, gt, diffs)
-			calls += bealeLBFGSAnalyticDerivativeCost
+			calls += bealeLBFGSAnalyticDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = bealeLBFGSAnalyticDot(gt, d), true
 			switch {
 			case !bealeLBFGSAnalyticFinite(current.slope):
@@ -741,18 +811,22 @@ func bealeLBFGSAnalyticLineSearch(x *[2]float64, fx float64, d *[2]float64, slop
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return bealeLBFGSAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: bealeLBFGSAnalyticSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = bealeLBFGSAnalyticZoomTrial(&low, &high)
-		} else {
-			t = bealeLBFGSAnalyticExpandTrial(&previous, &current)
+		} else if t = bealeLBFGSAnalyticExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return bealeLBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return bealeLBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return bealeLBFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: bealeLBFGSAnalyticSearchExhausted}
 }
@@ -839,6 +913,11 @@ func bealeLBFGSAnalyticFaithfulStep(x, xt, d *[2]float64, t float64) bool {
 	return true
 }
 
+// bealeLBFGSAnalyticStepCap: without bounds a step may be as long as the search wants.
+func bealeLBFGSAnalyticStepCap(x, d *[2]float64, tiny float64, b *bealeLBFGSAnalyticBox) float64 {
+	return math.Inf(1)
+}
+
 // bealeLBFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -863,10 +942,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func bealeLBFGSAnalyticAcceptLow(x, d *[2]float64, low *bealeLBFGSAnalyticLinePoint, lowGradient *[2]float64, calls int, xt, gt *[2]float64) bealeLBFGSAnalyticLineResult {
-	bealeLBFGSAnalyticMoveTo(xt, x, low.step, d)
+func bealeLBFGSAnalyticAcceptLow(x, d *[2]float64, low *bealeLBFGSAnalyticLinePoint, lowGradient *[2]float64, calls int, xt, gt *[2]float64, diffs *bealeLBFGSAnalyticDifferences) bealeLBFGSAnalyticLineResult {
+	bealeLBFGSAnalyticTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return bealeLBFGSAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: bealeLBFGSAnalyticSearchAccepted}
+}
+
+// bealeLBFGSAnalyticTrialPoint is x + t·d.
+func bealeLBFGSAnalyticTrialPoint(out, x *[2]float64, t float64, d *[2]float64, b *bealeLBFGSAnalyticBox) {
+	bealeLBFGSAnalyticMoveTo(out, x, t, d)
 }
 
 // bealeLBFGSAnalyticMoveTo sets out = x + t·d.
@@ -921,21 +1005,6 @@ func bealeLBFGSAnalyticModelMinimizer(a, b *bealeLBFGSAnalyticLinePoint) (t floa
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, bealeLBFGSAnalyticFinite(t)
-}
-
-// bealeLBFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func bealeLBFGSAnalyticClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // bealeLBFGSAnalyticExpandTrial picks a larger trial after current met sufficient decrease

@@ -88,6 +88,9 @@ func BealeLBFGSCentralDefaultLimits() BealeLBFGSCentralLimits {
 	}
 }
 
+// bealeLBFGSCentralBox is empty: mgh.toml sets no bounds on BealeLBFGSCentral.
+type bealeLBFGSCentralBox struct{}
+
 // BealeLBFGSCentral minimizes Beale from x0, as mgh.toml specifies.
 //
 // Direction lbfgs: limited-memory BFGS: the last `memory` pairs, two-loop recursion (2·memory·dim numbers).
@@ -105,7 +108,7 @@ func BealeLBFGSCentral(x0 [2]float64) BealeLBFGSCentralResult {
 
 // BealeLBFGSCentralWithLimits is BealeLBFGSCentral with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func BealeLBFGSCentralWithLimits(x0 [2]float64, limits BealeLBFGSCentralLimits) BealeLBFGSCentralResult {
-	out := bealeLBFGSCentralMinimize(x0, limits)
+	out := bealeLBFGSCentralMinimize(x0, limits, bealeLBFGSCentralBox{})
 	return BealeLBFGSCentralResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -159,27 +162,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func bealeLBFGSCentralMinimize(x0 [2]float64, lim BealeLBFGSCentralLimits) bealeLBFGSCentralOutcome {
-	out := bealeLBFGSCentralOutcome{x: x0, status: BealeLBFGSCentralOutOfEvaluations, gradient: math.NaN()}
+func bealeLBFGSCentralMinimize(x0 [2]float64, lim BealeLBFGSCentralLimits, bounds bealeLBFGSCentralBox) bealeLBFGSCentralOutcome {
+	x := x0
+	bealeLBFGSCentralEnterBox(&x, &bounds)
+	out := bealeLBFGSCentralOutcome{x: x, status: BealeLBFGSCentralOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := Beale(&x)
 	out.f, out.evaluations = fx, 1
 	if !bealeLBFGSCentralFinite(fx) || !bealeLBFGSCentralFiniteVec(&x) {
 		out.status = BealeLBFGSCentralNonFiniteStart
 		return out
 	}
-	var diffs bealeLBFGSCentralDifferences
+	diffs := bealeLBFGSCentralDifferences{bounds: bounds}
 	calls, ok := bealeLBFGSCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+bealeLBFGSCentralDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [2]float64
-	bealeLBFGSCentralDerivative(&x, fx, &g, &diffs)
-	out.evaluations += bealeLBFGSCentralDerivativeCost
+	out.evaluations += bealeLBFGSCentralDerivative(&x, fx, &g, &diffs)
 
 	if !bealeLBFGSCentralFiniteVec(&g) {
 		out.status = BealeLBFGSCentralNonFiniteGradient
@@ -212,7 +215,7 @@ func bealeLBFGSCentralMinimize(x0 [2]float64, lim BealeLBFGSCentralLimits) beale
 		case !confirmed:
 			bealeLBFGSCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := bealeLBFGSCentralGradientMeasure(&g, &e, &x, fx)
+		measure, floor := bealeLBFGSCentralStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, bealeLBFGSCentralLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -251,16 +254,17 @@ func bealeLBFGSCentralMinimize(x0 [2]float64, lim BealeLBFGSCentralLimits) beale
 			if rises >= 8 {
 				return best.ending(BealeLBFGSCentralDiverged, out.iterations, out.evaluations)
 			}
+			bealeLBFGSCentralCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(BealeLBFGSCentralOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		bealeLBFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := bealeLBFGSCentralDot(&g, &d)
 		if !(now < 0) || !bealeLBFGSCentralFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			bealeLBFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = bealeLBFGSCentralDot(&g, &d)
 		}
 		first := float64(bealeLBFGSCentralStepInitial)
@@ -268,7 +272,7 @@ func bealeLBFGSCentralMinimize(x0 [2]float64, lim BealeLBFGSCentralLimits) beale
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := bealeLBFGSCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := bealeLBFGSCentralLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := bealeLBFGSCentralLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case bealeLBFGSCentralSearchOutOfBudget:
@@ -304,8 +308,7 @@ func bealeLBFGSCentralMinimize(x0 [2]float64, lim BealeLBFGSCentralLimits) beale
 				}
 				return best.ending(BealeLBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			bealeLBFGSCentralDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += bealeLBFGSCentralDerivativeCost
+			out.evaluations += bealeLBFGSCentralDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		bealeLBFGSCentralDifference(&s, &xt, &x)
@@ -346,6 +349,9 @@ func (o bealeLBFGSCentralOutcome) ending(end BealeLBFGSCentralStatus, iterations
 	return o
 }
 
+// bealeLBFGSCentralEnterBox: without bounds every start is inside.
+func bealeLBFGSCentralEnterBox(x *[2]float64, b *bealeLBFGSCentralBox) {}
+
 // bealeLBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -368,15 +374,17 @@ func bealeLBFGSCentralFiniteVec(x *[2]float64) bool {
 	return true
 }
 
-// bealeLBFGSCentralDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// bealeLBFGSCentralDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type bealeLBFGSCentralDifferences struct {
 	ratio     [2]float64
 	curvature [2]float64
 	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see bealeLBFGSCentralRoundingFloor)
+	bounds    bealeLBFGSCentralBox
 }
 
 // bealeLBFGSCentralCalibrate chooses each central-difference interval from the
@@ -398,19 +406,45 @@ func bealeLBFGSCentralCalibrate(x *[2]float64, fx float64, diffs *bealeLBFGSCent
 	var slope [2]float64
 	scale := bealeLBFGSCentralAbs(fx)
 	quarter := bealeLBFGSCentralSquareRoot(bealeLBFGSCentralSquareRoot(bealeLBFGSCentralUnitRoundoff)) // u^(1/4)
+	calls := 0
 	for i := range probe {
-		if 4*(i+1) > budget {
-			return 4 * i, false
+		if calls+4 > budget {
+			return calls, false
 		}
 		xi := probe[i]
 		bar := quarter * bealeLBFGSCentralLarger(1, bealeLBFGSCentralAbs(xi))
+		lower, upper := bealeLBFGSCentralCoordinateRange(i, diffs)
+		if xi+2*bar > upper || xi-2*bar < lower {
+			// At a bound: three probes on the side with room, at h, 2h
+			// and 3h, for f‴ ≈ (f(3h) − 3f(2h) + 3f(h) − f(0))/h³ (the
+			// third forward difference).
+			h := bealeLBFGSCentralOneSide(xi, bar, 3, lower, upper)
+			if h == 0 {
+				continue // fixed by equal bounds
+			}
+			var f [3]float64
+			for k := range f {
+				probe[i], _ = bealeLBFGSCentralProbeStep(xi, float64(k+1)*h, lower, upper)
+				f[k] = Beale(&probe)
+				scale = bealeLBFGSCentralLarger(scale, bealeLBFGSCentralMagnitude(f[k]))
+			}
+			probe[i] = xi
+			calls += 3
+			if bealeLBFGSCentralFinite(f[0]) && bealeLBFGSCentralFinite(f[1]) && bealeLBFGSCentralFinite(f[2]) {
+				diffs.curvature[i] = bealeLBFGSCentralAbs(f[2]-3*f[1]+3*f[0]-fx) / bealeLBFGSCentralAbs(h*h*h)
+				diffs.second[i] = bealeLBFGSCentralAbs(fx-2*f[0]+f[1]) / (h * h)
+				slope[i] = (-3*fx + 4*f[0] - f[1]) / (2 * h)
+			}
+			continue
+		}
 		var f [4]float64
 		for k, m := range [4]float64{2, 1, -1, -2} {
-			probe[i], _ = bealeLBFGSCentralProbeStep(xi, m*bar)
+			probe[i], _ = bealeLBFGSCentralProbeStep(xi, m*bar, lower, upper)
 			f[k] = Beale(&probe)
 			scale = bealeLBFGSCentralLarger(scale, bealeLBFGSCentralMagnitude(f[k]))
 		}
 		probe[i] = xi
+		calls += 4
 		if bealeLBFGSCentralFinite(f[0]) && bealeLBFGSCentralFinite(f[1]) && bealeLBFGSCentralFinite(f[2]) && bealeLBFGSCentralFinite(f[3]) {
 			diffs.curvature[i] = bealeLBFGSCentralAbs(f[0]-2*f[1]+2*f[2]-f[3]) / (2 * bar * bar * bar)
 			diffs.second[i] = bealeLBFGSCentralAbs(f[1]-2*fx+f[2]) / (bar * bar)
@@ -429,7 +463,7 @@ func bealeLBFGSCentralCalibrate(x *[2]float64, fx float64, diffs *bealeLBFGSCent
 		diffs.ratio[i] = bealeLBFGSCentralClampBetween(h, 64*bealeLBFGSCentralUnitRoundoff*s, bar) / s
 		diffs.curvature[i] = third
 	}
-	return 4 * len(probe), true
+	return calls, true
 }
 
 // bealeLBFGSCentralAbs returns |v|.
@@ -455,10 +489,48 @@ func bealeLBFGSCentralLarger(a, b float64) float64 {
 	return b
 }
 
-// bealeLBFGSCentralProbeStep returns x_i moved by h, and the step actually representable.
-func bealeLBFGSCentralProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// bealeLBFGSCentralCoordinateRange: without bounds any probe is allowed.
+func bealeLBFGSCentralCoordinateRange(i int, diffs *bealeLBFGSCentralDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// bealeLBFGSCentralOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func bealeLBFGSCentralOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
+}
+
+// bealeLBFGSCentralProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func bealeLBFGSCentralProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := bealeLBFGSCentralClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// bealeLBFGSCentralClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func bealeLBFGSCentralClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
 }
 
 // bealeLBFGSCentralMagnitude is |v| for a finite v and 0 otherwise: a probe that fell
@@ -494,42 +566,85 @@ func bealeLBFGSCentralCubeRoot(v float64) float64 {
 	return math.Cbrt(v)
 }
 
-// bealeLBFGSCentralClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func bealeLBFGSCentralClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
-}
-
 // bealeLBFGSCentralDerivative approximates the gradient by central differences,
 //
 //	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),
 //
 // with the intervals bealeLBFGSCentralCalibrate chose, h_i = ratio_i·max(1, |x_i|)
-// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls; fx is
-// not needed.
-func bealeLBFGSCentralDerivative(x *[2]float64, fx float64, g *[2]float64, diffs *bealeLBFGSCentralDifferences) {
+// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls. Where
+// a bound leaves no room on one side, the three-point endpoint formula on
+// the other side takes its place at the same cost (see parabola); a
+// variable fixed by equal bounds costs nothing and gets 0.
+func bealeLBFGSCentralDerivative(x *[2]float64, fx float64, g *[2]float64, diffs *bealeLBFGSCentralDifferences) int {
 	probe := *x
+	calls := 0
 	for i := range probe {
 		xi := probe[i]
-		h := diffs.ratio[i] * bealeLBFGSCentralLarger(1, bealeLBFGSCentralAbs(xi))
-		up, _ := bealeLBFGSCentralProbeStep(xi, h)
-		down, _ := bealeLBFGSCentralProbeStep(xi, -h)
-		probe[i] = up
-		fUp := Beale(&probe)
-		probe[i] = down
-		fDown := Beale(&probe)
-		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
-		probe[i] = xi
+		h, oneSided := bealeLBFGSCentralCentralInterval(x, i, diffs)
+		lower, upper := bealeLBFGSCentralCoordinateRange(i, diffs)
+		switch {
+		case h == 0:
+			g[i] = 0 // fixed by equal bounds
+			continue
+		case oneSided:
+			g[i], _, _ = bealeLBFGSCentralSidedProbes(&probe, i, fx, h, lower, upper) // the three-point endpoint formula
+		default:
+			up, _ := bealeLBFGSCentralProbeStep(xi, h, lower, upper)
+			down, _ := bealeLBFGSCentralProbeStep(xi, -h, lower, upper)
+			probe[i] = up
+			fUp := Beale(&probe)
+			probe[i] = down
+			fDown := Beale(&probe)
+			g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+			probe[i] = xi
+		}
+		calls += 2
 	}
+	return calls
+}
+
+// bealeLBFGSCentralCentralInterval is the interval of coordinate i at x, ratio_i·max(1,
+// |x_i|), and whether the box leaves room for probes on both sides; when
+// it does not, the interval is signed towards the side with room for
+// probes at h and 2h, and shortened where the box is narrower than that
+// (see bealeLBFGSCentralOneSide).
+func bealeLBFGSCentralCentralInterval(x *[2]float64, i int, diffs *bealeLBFGSCentralDifferences) (h float64, oneSided bool) {
+	lower, upper := bealeLBFGSCentralCoordinateRange(i, diffs)
+	h = diffs.ratio[i] * bealeLBFGSCentralLarger(1, bealeLBFGSCentralAbs(x[i]))
+	if x[i]+h <= upper && x[i]-h >= lower {
+		return h, false
+	}
+	return bealeLBFGSCentralOneSide(x[i], h, 2, lower, upper), true
+}
+
+// bealeLBFGSCentralSidedProbes evaluates f at x moved along coordinate i by h and by 2h,
+// kept within [lower, upper], and returns the slope and second derivative
+// of the parabola through them and (x, fx) (see parabola), and the larger
+// magnitude of the two values.
+func bealeLBFGSCentralSidedProbes(probe *[2]float64, i int, fx, h, lower, upper float64) (slope, second, size float64) {
+	xi := probe[i]
+	near, a := bealeLBFGSCentralProbeStep(xi, h, lower, upper)
+	far, b := bealeLBFGSCentralProbeStep(xi, 2*h, lower, upper)
+	probe[i] = near
+	fNear := Beale(probe)
+	probe[i] = far
+	fFar := Beale(probe)
+	probe[i] = xi
+	slope, second = bealeLBFGSCentralParabola(fx, a, fNear, b, fFar)
+	return slope, second, bealeLBFGSCentralLarger(bealeLBFGSCentralMagnitude(fNear), bealeLBFGSCentralMagnitude(fFar))
+}
+
+// bealeLBFGSCentralParabola returns the first and second derivatives at 0 of the parabola
+// through (0, f0), (a, fa) and (b, fb), for probes on one side of a bound.
+// With b = 2a they are the three-point endpoint formulas
+// f′ ≈ (−3f0 + 4fa − fb)/(2a), error a²|f‴|/3, and
+// f″ ≈ (f0 − 2fa + fb)/a² (Burden & Faires, Numerical Analysis, §4.1
+// and §4.1's second-derivative formulas, from memory); written for unequal
+// a and b, so that the representable steps can be used.
+func bealeLBFGSCentralParabola(f0, a, fa, b, fb float64) (slope, second float64) {
+	slope = -(a+b)/(a*b)*f0 + b/(a*(b-a))*fa - a/(b*(b-a))*fb
+	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
+	return slope, second
 }
 
 // bealeLBFGSCentralDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
@@ -694,13 +809,13 @@ func bealeLBFGSCentralConfirmGradient(x *[2]float64, fx float64, g, e *[2]float6
 		wide.ratio[i] *= 2
 	}
 	var doubled [2]float64
-	bealeLBFGSCentralDerivative(x, fx, g, diffs)
-	bealeLBFGSCentralDerivative(x, fx, &doubled, &wide)
+	calls += bealeLBFGSCentralDerivative(x, fx, g, diffs)
+	calls += bealeLBFGSCentralDerivative(x, fx, &doubled, &wide)
 	bealeLBFGSCentralGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * bealeLBFGSCentralAbs(g[i]-doubled[i])
 	}
-	return calls + 2*bealeLBFGSCentralDerivativeCost, true
+	return calls, true
 }
 
 // bealeLBFGSCentralGradientError bounds each central difference's error by twice its
@@ -710,8 +825,16 @@ func bealeLBFGSCentralConfirmGradient(x *[2]float64, fx float64, g, e *[2]float6
 func bealeLBFGSCentralGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *bealeLBFGSCentralDifferences) {
 	noise := bealeLBFGSCentralNoiseLevel(x, fx, g)
 	for i := range e {
-		h := diffs.ratio[i] * bealeLBFGSCentralLarger(1, bealeLBFGSCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		h, oneSided := bealeLBFGSCentralCentralInterval(x, i, diffs)
+		h = bealeLBFGSCentralAbs(h)
+		switch {
+		case h == 0:
+			e[i] = 0 // fixed by equal bounds
+		case oneSided:
+			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+		default:
+			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		}
 	}
 }
 
@@ -733,6 +856,11 @@ func bealeLBFGSCentralRoundingFloor(x, g, e *[2]float64, diffs *bealeLBFGSCentra
 // calibration, which bealeLBFGSCentralConfirmGradient has just made at x.
 func bealeLBFGSCentralDiagonalCurvature(x, g *[2]float64, diffs *bealeLBFGSCentralDifferences, h *[2]float64) {
 	*h = diffs.second
+}
+
+// bealeLBFGSCentralStationarity measures the gradient itself.
+func bealeLBFGSCentralStationarity(g, e, x *[2]float64, fx float64, b *bealeLBFGSCentralBox) (measure, floor float64) {
+	return bealeLBFGSCentralGradientMeasure(g, e, x, fx)
 }
 
 // bealeLBFGSCentralGradientMeasure is the scale-free measure
@@ -768,6 +896,14 @@ func bealeLBFGSCentralStepWithin(s, x *[2]float64, tol float64) bool {
 	return true
 }
 
+// bealeLBFGSCentralCurvaturePair: without bounds the pair is used as it is.
+func bealeLBFGSCentralCurvaturePair(s, y, x *[2]float64, b *bealeLBFGSCentralBox) {}
+
+// bealeLBFGSCentralSearchDirection is the direction's own.
+func bealeLBFGSCentralSearchDirection(dir *bealeLBFGSCentralDirection, x, g, d *[2]float64, b *bealeLBFGSCentralBox) {
+	dir.compute(g, d)
+}
+
 // bealeLBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func bealeLBFGSCentralTinyStep(x, d *[2]float64, tol float64) float64 {
@@ -795,7 +931,10 @@ func bealeLBFGSCentralTinyStep(x, d *[2]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (bealeLBFGSCentralStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -804,13 +943,17 @@ func bealeLBFGSCentralTinyStep(x, d *[2]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func bealeLBFGSCentralLineSearch(x *[2]float64, fx float64, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *bealeLBFGSCentralDifferences) bealeLBFGSCentralLineResult {
+func bealeLBFGSCentralLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *bealeLBFGSCentralDifferences) bealeLBFGSCentralLineResult {
 	low := bealeLBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high bealeLBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                 // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend bealeLBFGSCentralRiseTrend // of the trials failing sufficient decrease
+	var trend bealeLBFGSCentralRiseTrend                         // of the trials failing sufficient decrease
+	limit := bealeLBFGSCentralStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < bealeLBFGSCentralStepTrials; trial++ {
 		if bracketed && bealeLBFGSCentralAbs(high.step-low.step) <= tiny {
@@ -820,12 +963,12 @@ func bealeLBFGSCentralLineSearch(x *[2]float64, fx float64, d *[2]float64, slope
 			if low.step == 0 {
 				return bealeLBFGSCentralLineResult{calls: calls, rising: trend.contradicts(), end: bealeLBFGSCentralTinyOrExhausted(bealeLBFGSCentralFinite(high.value))}
 			}
-			return bealeLBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return bealeLBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return bealeLBFGSCentralLineResult{calls: calls, end: bealeLBFGSCentralSearchOutOfBudget}
 		}
-		bealeLBFGSCentralMoveTo(xt, x, t, d)
+		bealeLBFGSCentralTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := bealeLBFGSCentralLinePoint{step: t, value: Beale(xt)}
 		calls++
 		previous := low
@@ -836,8 +979,7 @@ func bealeLBFGSCentralLineSearch(x *[2]float64, fx float64, d *[2]float64, slope
 			if calls+bealeLBFGSCentralDerivativeCost > budget {
 				return bealeLBFGSCentralLineResult{calls: calls, end: bealeLBFGSCentralSearchOutOfBudget}
 			}
-			bealeLBFGSCentralDerivative(xt, current.value, gt, diffs)
-			calls += bealeLBFGSCentralDerivativeCost
+			calls += bealeLBFGSCentralDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = bealeLBFGSCentralDot(gt, d), true
 			switch {
 			case !bealeLBFGSCentralFinite(current.slope):
@@ -848,18 +990,22 @@ func bealeLBFGSCentralLineSearch(x *[2]float64, fx float64, d *[2]float64, slope
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return bealeLBFGSCentralLineResult{step: t, value: current.value, calls: calls, gradient: true, end: bealeLBFGSCentralSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = bealeLBFGSCentralZoomTrial(&low, &high)
-		} else {
-			t = bealeLBFGSCentralExpandTrial(&previous, &current)
+		} else if t = bealeLBFGSCentralExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return bealeLBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return bealeLBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return bealeLBFGSCentralLineResult{calls: calls, rising: trend.contradicts(), end: bealeLBFGSCentralSearchExhausted}
 }
@@ -946,6 +1092,11 @@ func bealeLBFGSCentralFaithfulStep(x, xt, d *[2]float64, t float64) bool {
 	return true
 }
 
+// bealeLBFGSCentralStepCap: without bounds a step may be as long as the search wants.
+func bealeLBFGSCentralStepCap(x, d *[2]float64, tiny float64, b *bealeLBFGSCentralBox) float64 {
+	return math.Inf(1)
+}
+
 // bealeLBFGSCentralTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -970,10 +1121,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func bealeLBFGSCentralAcceptLow(x, d *[2]float64, low *bealeLBFGSCentralLinePoint, lowGradient *[2]float64, calls int, xt, gt *[2]float64) bealeLBFGSCentralLineResult {
-	bealeLBFGSCentralMoveTo(xt, x, low.step, d)
+func bealeLBFGSCentralAcceptLow(x, d *[2]float64, low *bealeLBFGSCentralLinePoint, lowGradient *[2]float64, calls int, xt, gt *[2]float64, diffs *bealeLBFGSCentralDifferences) bealeLBFGSCentralLineResult {
+	bealeLBFGSCentralTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return bealeLBFGSCentralLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: bealeLBFGSCentralSearchAccepted}
+}
+
+// bealeLBFGSCentralTrialPoint is x + t·d.
+func bealeLBFGSCentralTrialPoint(out, x *[2]float64, t float64, d *[2]float64, b *bealeLBFGSCentralBox) {
+	bealeLBFGSCentralMoveTo(out, x, t, d)
 }
 
 // bealeLBFGSCentralMoveTo sets out = x + t·d.

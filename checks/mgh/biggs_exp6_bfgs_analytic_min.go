@@ -88,6 +88,9 @@ func BiggsEXP6BFGSAnalyticDefaultLimits() BiggsEXP6BFGSAnalyticLimits {
 	}
 }
 
+// biggsEXP6BFGSAnalyticBox is empty: mgh.toml sets no bounds on BiggsEXP6BFGSAnalytic.
+type biggsEXP6BFGSAnalyticBox struct{}
+
 // BiggsEXP6BFGSAnalytic minimizes BiggsEXP6 from x0, as mgh.toml specifies.
 //
 // Direction bfgs: BFGS quasi-Newton with a dense inverse-Hessian approximation (dim² numbers).
@@ -105,7 +108,7 @@ func BiggsEXP6BFGSAnalytic(x0 [6]float64) BiggsEXP6BFGSAnalyticResult {
 
 // BiggsEXP6BFGSAnalyticWithLimits is BiggsEXP6BFGSAnalytic with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func BiggsEXP6BFGSAnalyticWithLimits(x0 [6]float64, limits BiggsEXP6BFGSAnalyticLimits) BiggsEXP6BFGSAnalyticResult {
-	out := biggsEXP6BFGSAnalyticMinimize(x0, limits)
+	out := biggsEXP6BFGSAnalyticMinimize(x0, limits, biggsEXP6BFGSAnalyticBox{})
 	return BiggsEXP6BFGSAnalyticResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func biggsEXP6BFGSAnalyticMinimize(x0 [6]float64, lim BiggsEXP6BFGSAnalyticLimits) biggsEXP6BFGSAnalyticOutcome {
-	out := biggsEXP6BFGSAnalyticOutcome{x: x0, status: BiggsEXP6BFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
+func biggsEXP6BFGSAnalyticMinimize(x0 [6]float64, lim BiggsEXP6BFGSAnalyticLimits, bounds biggsEXP6BFGSAnalyticBox) biggsEXP6BFGSAnalyticOutcome {
+	x := x0
+	biggsEXP6BFGSAnalyticEnterBox(&x, &bounds)
+	out := biggsEXP6BFGSAnalyticOutcome{x: x, status: BiggsEXP6BFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := BiggsEXP6(&x)
 	out.f, out.evaluations = fx, 1
 	if !biggsEXP6BFGSAnalyticFinite(fx) || !biggsEXP6BFGSAnalyticFiniteVec(&x) {
 		out.status = BiggsEXP6BFGSAnalyticNonFiniteStart
 		return out
 	}
-	var diffs biggsEXP6BFGSAnalyticDifferences
+	diffs := biggsEXP6BFGSAnalyticDifferences{bounds: bounds}
 	calls, ok := biggsEXP6BFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+biggsEXP6BFGSAnalyticDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [6]float64
-	biggsEXP6BFGSAnalyticDerivative(&x, fx, &g, &diffs)
-	out.evaluations += biggsEXP6BFGSAnalyticDerivativeCost
+	out.evaluations += biggsEXP6BFGSAnalyticDerivative(&x, fx, &g, &diffs)
 
 	if !biggsEXP6BFGSAnalyticFiniteVec(&g) {
 		out.status = BiggsEXP6BFGSAnalyticNonFiniteGradient
@@ -211,7 +214,7 @@ func biggsEXP6BFGSAnalyticMinimize(x0 [6]float64, lim BiggsEXP6BFGSAnalyticLimit
 		case !confirmed:
 			biggsEXP6BFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := biggsEXP6BFGSAnalyticGradientMeasure(&g, &e, &x, fx)
+		measure, floor := biggsEXP6BFGSAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, biggsEXP6BFGSAnalyticLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func biggsEXP6BFGSAnalyticMinimize(x0 [6]float64, lim BiggsEXP6BFGSAnalyticLimit
 			if rises >= 8 {
 				return best.ending(BiggsEXP6BFGSAnalyticDiverged, out.iterations, out.evaluations)
 			}
+			biggsEXP6BFGSAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(BiggsEXP6BFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		biggsEXP6BFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := biggsEXP6BFGSAnalyticDot(&g, &d)
 		if !(now < 0) || !biggsEXP6BFGSAnalyticFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			biggsEXP6BFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = biggsEXP6BFGSAnalyticDot(&g, &d)
 		}
 		first := float64(biggsEXP6BFGSAnalyticStepInitial)
@@ -267,7 +271,7 @@ func biggsEXP6BFGSAnalyticMinimize(x0 [6]float64, lim BiggsEXP6BFGSAnalyticLimit
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := biggsEXP6BFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := biggsEXP6BFGSAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := biggsEXP6BFGSAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case biggsEXP6BFGSAnalyticSearchOutOfBudget:
@@ -303,8 +307,7 @@ func biggsEXP6BFGSAnalyticMinimize(x0 [6]float64, lim BiggsEXP6BFGSAnalyticLimit
 				}
 				return best.ending(BiggsEXP6BFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			biggsEXP6BFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += biggsEXP6BFGSAnalyticDerivativeCost
+			out.evaluations += biggsEXP6BFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		biggsEXP6BFGSAnalyticDifference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o biggsEXP6BFGSAnalyticOutcome) ending(end BiggsEXP6BFGSAnalyticStatus, it
 	return o
 }
 
+// biggsEXP6BFGSAnalyticEnterBox: without bounds every start is inside.
+func biggsEXP6BFGSAnalyticEnterBox(x *[6]float64, b *biggsEXP6BFGSAnalyticBox) {}
+
 // biggsEXP6BFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func biggsEXP6BFGSAnalyticFiniteVec(x *[6]float64) bool {
 	return true
 }
 
-// biggsEXP6BFGSAnalyticDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// biggsEXP6BFGSAnalyticDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type biggsEXP6BFGSAnalyticDifferences struct {
 	ratio     [6]float64
 	curvature [6]float64
 	second    [6]float64 // |f″| along e_i, for the rounding floor of a stall (see biggsEXP6BFGSAnalyticRoundingFloor)
+	bounds    biggsEXP6BFGSAnalyticBox
 }
 
 // biggsEXP6BFGSAnalyticCalibrate: an analytic gradient needs no intervals.
@@ -384,8 +392,9 @@ func biggsEXP6BFGSAnalyticCalibrate(x *[6]float64, fx float64, diffs *biggsEXP6B
 }
 
 // biggsEXP6BFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func biggsEXP6BFGSAnalyticDerivative(x *[6]float64, fx float64, g *[6]float64, diffs *biggsEXP6BFGSAnalyticDifferences) {
+func biggsEXP6BFGSAnalyticDerivative(x *[6]float64, fx float64, g *[6]float64, diffs *biggsEXP6BFGSAnalyticDifferences) int {
 	BiggsEXP6Grad(x, g)
+	return 0
 }
 
 // biggsEXP6BFGSAnalyticDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
@@ -525,13 +534,13 @@ func biggsEXP6BFGSAnalyticConfirmGradient(x *[6]float64, fx float64, g, e *[6]fl
 		wide.ratio[i] *= 2
 	}
 	var doubled [6]float64
-	biggsEXP6BFGSAnalyticDerivative(x, fx, g, diffs)
-	biggsEXP6BFGSAnalyticDerivative(x, fx, &doubled, &wide)
+	calls += biggsEXP6BFGSAnalyticDerivative(x, fx, g, diffs)
+	calls += biggsEXP6BFGSAnalyticDerivative(x, fx, &doubled, &wide)
 	biggsEXP6BFGSAnalyticGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * biggsEXP6BFGSAnalyticAbs(g[i]-doubled[i])
 	}
-	return calls + 2*biggsEXP6BFGSAnalyticDerivativeCost, true
+	return calls, true
 }
 
 // biggsEXP6BFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
@@ -573,18 +582,60 @@ func biggsEXP6BFGSAnalyticDiagonalCurvature(x, g *[6]float64, diffs *biggsEXP6BF
 	var moved [6]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := biggsEXP6BFGSAnalyticProbeStep(xi, biggsEXP6BFGSAnalyticSquareRoot(biggsEXP6BFGSAnalyticUnitRoundoff)*biggsEXP6BFGSAnalyticLarger(1, biggsEXP6BFGSAnalyticAbs(xi)))
-		probe[i] = up
-		BiggsEXP6Grad(&probe, &moved)
-		h[i] = biggsEXP6BFGSAnalyticAbs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := biggsEXP6BFGSAnalyticCoordinateRange(i, diffs)
+		up, delta := biggsEXP6BFGSAnalyticProbeStep(xi, biggsEXP6BFGSAnalyticOneSide(xi, biggsEXP6BFGSAnalyticSquareRoot(biggsEXP6BFGSAnalyticUnitRoundoff)*biggsEXP6BFGSAnalyticLarger(1, biggsEXP6BFGSAnalyticAbs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			BiggsEXP6Grad(&probe, &moved)
+			h[i] = biggsEXP6BFGSAnalyticAbs(moved[i]-g[i]) / biggsEXP6BFGSAnalyticAbs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// biggsEXP6BFGSAnalyticProbeStep returns x_i moved by h, and the step actually representable.
-func biggsEXP6BFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// biggsEXP6BFGSAnalyticCoordinateRange: without bounds any probe is allowed.
+func biggsEXP6BFGSAnalyticCoordinateRange(i int, diffs *biggsEXP6BFGSAnalyticDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// biggsEXP6BFGSAnalyticProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func biggsEXP6BFGSAnalyticProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := biggsEXP6BFGSAnalyticClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// biggsEXP6BFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func biggsEXP6BFGSAnalyticClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// biggsEXP6BFGSAnalyticOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func biggsEXP6BFGSAnalyticOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // biggsEXP6BFGSAnalyticSquareRoot returns √v.
@@ -600,6 +651,11 @@ func biggsEXP6BFGSAnalyticLarger(a, b float64) float64 {
 		return a
 	}
 	return b
+}
+
+// biggsEXP6BFGSAnalyticStationarity measures the gradient itself.
+func biggsEXP6BFGSAnalyticStationarity(g, e, x *[6]float64, fx float64, b *biggsEXP6BFGSAnalyticBox) (measure, floor float64) {
+	return biggsEXP6BFGSAnalyticGradientMeasure(g, e, x, fx)
 }
 
 // biggsEXP6BFGSAnalyticGradientMeasure is the scale-free measure
@@ -635,6 +691,14 @@ func biggsEXP6BFGSAnalyticStepWithin(s, x *[6]float64, tol float64) bool {
 	return true
 }
 
+// biggsEXP6BFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
+func biggsEXP6BFGSAnalyticCurvaturePair(s, y, x *[6]float64, b *biggsEXP6BFGSAnalyticBox) {}
+
+// biggsEXP6BFGSAnalyticSearchDirection is the direction's own.
+func biggsEXP6BFGSAnalyticSearchDirection(dir *biggsEXP6BFGSAnalyticDirection, x, g, d *[6]float64, b *biggsEXP6BFGSAnalyticBox) {
+	dir.compute(g, d)
+}
+
 // biggsEXP6BFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func biggsEXP6BFGSAnalyticTinyStep(x, d *[6]float64, tol float64) float64 {
@@ -662,7 +726,10 @@ func biggsEXP6BFGSAnalyticTinyStep(x, d *[6]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (biggsEXP6BFGSAnalyticStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -671,13 +738,17 @@ func biggsEXP6BFGSAnalyticTinyStep(x, d *[6]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func biggsEXP6BFGSAnalyticLineSearch(x *[6]float64, fx float64, d *[6]float64, slope, first, tiny float64, budget int, xt, gt *[6]float64, diffs *biggsEXP6BFGSAnalyticDifferences) biggsEXP6BFGSAnalyticLineResult {
+func biggsEXP6BFGSAnalyticLineSearch(x *[6]float64, fx float64, g, d *[6]float64, slope, first, tiny float64, budget int, xt, gt *[6]float64, diffs *biggsEXP6BFGSAnalyticDifferences) biggsEXP6BFGSAnalyticLineResult {
 	low := biggsEXP6BFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high biggsEXP6BFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [6]float64                                                     // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend biggsEXP6BFGSAnalyticRiseTrend // of the trials failing sufficient decrease
+	var trend biggsEXP6BFGSAnalyticRiseTrend                         // of the trials failing sufficient decrease
+	limit := biggsEXP6BFGSAnalyticStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < biggsEXP6BFGSAnalyticStepTrials; trial++ {
 		if bracketed && biggsEXP6BFGSAnalyticAbs(high.step-low.step) <= tiny {
@@ -687,12 +758,12 @@ func biggsEXP6BFGSAnalyticLineSearch(x *[6]float64, fx float64, d *[6]float64, s
 			if low.step == 0 {
 				return biggsEXP6BFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: biggsEXP6BFGSAnalyticTinyOrExhausted(biggsEXP6BFGSAnalyticFinite(high.value))}
 			}
-			return biggsEXP6BFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return biggsEXP6BFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return biggsEXP6BFGSAnalyticLineResult{calls: calls, end: biggsEXP6BFGSAnalyticSearchOutOfBudget}
 		}
-		biggsEXP6BFGSAnalyticMoveTo(xt, x, t, d)
+		biggsEXP6BFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := biggsEXP6BFGSAnalyticLinePoint{step: t, value: BiggsEXP6(xt)}
 		calls++
 		previous := low
@@ -703,8 +774,7 @@ func biggsEXP6BFGSAnalyticLineSearch(x *[6]float64, fx float64, d *[6]float64, s
 			if calls+biggsEXP6BFGSAnalyticDerivativeCost > budget {
 				return biggsEXP6BFGSAnalyticLineResult{calls: calls, end: biggsEXP6BFGSAnalyticSearchOutOfBudget}
 			}
-			biggsEXP6BFGSAnalyticDerivative(xt, current.value, gt, diffs)
-			calls += biggsEXP6BFGSAnalyticDerivativeCost
+			calls += biggsEXP6BFGSAnalyticDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = biggsEXP6BFGSAnalyticDot(gt, d), true
 			switch {
 			case !biggsEXP6BFGSAnalyticFinite(current.slope):
@@ -715,18 +785,22 @@ func biggsEXP6BFGSAnalyticLineSearch(x *[6]float64, fx float64, d *[6]float64, s
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return biggsEXP6BFGSAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: biggsEXP6BFGSAnalyticSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = biggsEXP6BFGSAnalyticZoomTrial(&low, &high)
-		} else {
-			t = biggsEXP6BFGSAnalyticExpandTrial(&previous, &current)
+		} else if t = biggsEXP6BFGSAnalyticExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return biggsEXP6BFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return biggsEXP6BFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return biggsEXP6BFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: biggsEXP6BFGSAnalyticSearchExhausted}
 }
@@ -813,6 +887,11 @@ func biggsEXP6BFGSAnalyticFaithfulStep(x, xt, d *[6]float64, t float64) bool {
 	return true
 }
 
+// biggsEXP6BFGSAnalyticStepCap: without bounds a step may be as long as the search wants.
+func biggsEXP6BFGSAnalyticStepCap(x, d *[6]float64, tiny float64, b *biggsEXP6BFGSAnalyticBox) float64 {
+	return math.Inf(1)
+}
+
 // biggsEXP6BFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -837,10 +916,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func biggsEXP6BFGSAnalyticAcceptLow(x, d *[6]float64, low *biggsEXP6BFGSAnalyticLinePoint, lowGradient *[6]float64, calls int, xt, gt *[6]float64) biggsEXP6BFGSAnalyticLineResult {
-	biggsEXP6BFGSAnalyticMoveTo(xt, x, low.step, d)
+func biggsEXP6BFGSAnalyticAcceptLow(x, d *[6]float64, low *biggsEXP6BFGSAnalyticLinePoint, lowGradient *[6]float64, calls int, xt, gt *[6]float64, diffs *biggsEXP6BFGSAnalyticDifferences) biggsEXP6BFGSAnalyticLineResult {
+	biggsEXP6BFGSAnalyticTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return biggsEXP6BFGSAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: biggsEXP6BFGSAnalyticSearchAccepted}
+}
+
+// biggsEXP6BFGSAnalyticTrialPoint is x + t·d.
+func biggsEXP6BFGSAnalyticTrialPoint(out, x *[6]float64, t float64, d *[6]float64, b *biggsEXP6BFGSAnalyticBox) {
+	biggsEXP6BFGSAnalyticMoveTo(out, x, t, d)
 }
 
 // biggsEXP6BFGSAnalyticMoveTo sets out = x + t·d.
@@ -895,21 +979,6 @@ func biggsEXP6BFGSAnalyticModelMinimizer(a, b *biggsEXP6BFGSAnalyticLinePoint) (
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, biggsEXP6BFGSAnalyticFinite(t)
-}
-
-// biggsEXP6BFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func biggsEXP6BFGSAnalyticClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // biggsEXP6BFGSAnalyticExpandTrial picks a larger trial after current met sufficient decrease

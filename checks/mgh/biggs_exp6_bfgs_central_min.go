@@ -88,6 +88,9 @@ func BiggsEXP6BFGSCentralDefaultLimits() BiggsEXP6BFGSCentralLimits {
 	}
 }
 
+// biggsEXP6BFGSCentralBox is empty: mgh.toml sets no bounds on BiggsEXP6BFGSCentral.
+type biggsEXP6BFGSCentralBox struct{}
+
 // BiggsEXP6BFGSCentral minimizes BiggsEXP6 from x0, as mgh.toml specifies.
 //
 // Direction bfgs: BFGS quasi-Newton with a dense inverse-Hessian approximation (dim² numbers).
@@ -105,7 +108,7 @@ func BiggsEXP6BFGSCentral(x0 [6]float64) BiggsEXP6BFGSCentralResult {
 
 // BiggsEXP6BFGSCentralWithLimits is BiggsEXP6BFGSCentral with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func BiggsEXP6BFGSCentralWithLimits(x0 [6]float64, limits BiggsEXP6BFGSCentralLimits) BiggsEXP6BFGSCentralResult {
-	out := biggsEXP6BFGSCentralMinimize(x0, limits)
+	out := biggsEXP6BFGSCentralMinimize(x0, limits, biggsEXP6BFGSCentralBox{})
 	return BiggsEXP6BFGSCentralResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func biggsEXP6BFGSCentralMinimize(x0 [6]float64, lim BiggsEXP6BFGSCentralLimits) biggsEXP6BFGSCentralOutcome {
-	out := biggsEXP6BFGSCentralOutcome{x: x0, status: BiggsEXP6BFGSCentralOutOfEvaluations, gradient: math.NaN()}
+func biggsEXP6BFGSCentralMinimize(x0 [6]float64, lim BiggsEXP6BFGSCentralLimits, bounds biggsEXP6BFGSCentralBox) biggsEXP6BFGSCentralOutcome {
+	x := x0
+	biggsEXP6BFGSCentralEnterBox(&x, &bounds)
+	out := biggsEXP6BFGSCentralOutcome{x: x, status: BiggsEXP6BFGSCentralOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := BiggsEXP6(&x)
 	out.f, out.evaluations = fx, 1
 	if !biggsEXP6BFGSCentralFinite(fx) || !biggsEXP6BFGSCentralFiniteVec(&x) {
 		out.status = BiggsEXP6BFGSCentralNonFiniteStart
 		return out
 	}
-	var diffs biggsEXP6BFGSCentralDifferences
+	diffs := biggsEXP6BFGSCentralDifferences{bounds: bounds}
 	calls, ok := biggsEXP6BFGSCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+biggsEXP6BFGSCentralDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [6]float64
-	biggsEXP6BFGSCentralDerivative(&x, fx, &g, &diffs)
-	out.evaluations += biggsEXP6BFGSCentralDerivativeCost
+	out.evaluations += biggsEXP6BFGSCentralDerivative(&x, fx, &g, &diffs)
 
 	if !biggsEXP6BFGSCentralFiniteVec(&g) {
 		out.status = BiggsEXP6BFGSCentralNonFiniteGradient
@@ -211,7 +214,7 @@ func biggsEXP6BFGSCentralMinimize(x0 [6]float64, lim BiggsEXP6BFGSCentralLimits)
 		case !confirmed:
 			biggsEXP6BFGSCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := biggsEXP6BFGSCentralGradientMeasure(&g, &e, &x, fx)
+		measure, floor := biggsEXP6BFGSCentralStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, biggsEXP6BFGSCentralLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func biggsEXP6BFGSCentralMinimize(x0 [6]float64, lim BiggsEXP6BFGSCentralLimits)
 			if rises >= 8 {
 				return best.ending(BiggsEXP6BFGSCentralDiverged, out.iterations, out.evaluations)
 			}
+			biggsEXP6BFGSCentralCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(BiggsEXP6BFGSCentralOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		biggsEXP6BFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := biggsEXP6BFGSCentralDot(&g, &d)
 		if !(now < 0) || !biggsEXP6BFGSCentralFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			biggsEXP6BFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = biggsEXP6BFGSCentralDot(&g, &d)
 		}
 		first := float64(biggsEXP6BFGSCentralStepInitial)
@@ -267,7 +271,7 @@ func biggsEXP6BFGSCentralMinimize(x0 [6]float64, lim BiggsEXP6BFGSCentralLimits)
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := biggsEXP6BFGSCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := biggsEXP6BFGSCentralLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := biggsEXP6BFGSCentralLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case biggsEXP6BFGSCentralSearchOutOfBudget:
@@ -303,8 +307,7 @@ func biggsEXP6BFGSCentralMinimize(x0 [6]float64, lim BiggsEXP6BFGSCentralLimits)
 				}
 				return best.ending(BiggsEXP6BFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			biggsEXP6BFGSCentralDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += biggsEXP6BFGSCentralDerivativeCost
+			out.evaluations += biggsEXP6BFGSCentralDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		biggsEXP6BFGSCentralDifference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o biggsEXP6BFGSCentralOutcome) ending(end BiggsEXP6BFGSCentralStatus, iter
 	return o
 }
 
+// biggsEXP6BFGSCentralEnterBox: without bounds every start is inside.
+func biggsEXP6BFGSCentralEnterBox(x *[6]float64, b *biggsEXP6BFGSCentralBox) {}
+
 // biggsEXP6BFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func biggsEXP6BFGSCentralFiniteVec(x *[6]float64) bool {
 	return true
 }
 
-// biggsEXP6BFGSCentralDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// biggsEXP6BFGSCentralDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type biggsEXP6BFGSCentralDifferences struct {
 	ratio     [6]float64
 	curvature [6]float64
 	second    [6]float64 // |f″| along e_i, for the rounding floor of a stall (see biggsEXP6BFGSCentralRoundingFloor)
+	bounds    biggsEXP6BFGSCentralBox
 }
 
 // biggsEXP6BFGSCentralCalibrate chooses each central-difference interval from the
@@ -397,19 +405,45 @@ func biggsEXP6BFGSCentralCalibrate(x *[6]float64, fx float64, diffs *biggsEXP6BF
 	var slope [6]float64
 	scale := biggsEXP6BFGSCentralAbs(fx)
 	quarter := biggsEXP6BFGSCentralSquareRoot(biggsEXP6BFGSCentralSquareRoot(biggsEXP6BFGSCentralUnitRoundoff)) // u^(1/4)
+	calls := 0
 	for i := range probe {
-		if 4*(i+1) > budget {
-			return 4 * i, false
+		if calls+4 > budget {
+			return calls, false
 		}
 		xi := probe[i]
 		bar := quarter * biggsEXP6BFGSCentralLarger(1, biggsEXP6BFGSCentralAbs(xi))
+		lower, upper := biggsEXP6BFGSCentralCoordinateRange(i, diffs)
+		if xi+2*bar > upper || xi-2*bar < lower {
+			// At a bound: three probes on the side with room, at h, 2h
+			// and 3h, for f‴ ≈ (f(3h) − 3f(2h) + 3f(h) − f(0))/h³ (the
+			// third forward difference).
+			h := biggsEXP6BFGSCentralOneSide(xi, bar, 3, lower, upper)
+			if h == 0 {
+				continue // fixed by equal bounds
+			}
+			var f [3]float64
+			for k := range f {
+				probe[i], _ = biggsEXP6BFGSCentralProbeStep(xi, float64(k+1)*h, lower, upper)
+				f[k] = BiggsEXP6(&probe)
+				scale = biggsEXP6BFGSCentralLarger(scale, biggsEXP6BFGSCentralMagnitude(f[k]))
+			}
+			probe[i] = xi
+			calls += 3
+			if biggsEXP6BFGSCentralFinite(f[0]) && biggsEXP6BFGSCentralFinite(f[1]) && biggsEXP6BFGSCentralFinite(f[2]) {
+				diffs.curvature[i] = biggsEXP6BFGSCentralAbs(f[2]-3*f[1]+3*f[0]-fx) / biggsEXP6BFGSCentralAbs(h*h*h)
+				diffs.second[i] = biggsEXP6BFGSCentralAbs(fx-2*f[0]+f[1]) / (h * h)
+				slope[i] = (-3*fx + 4*f[0] - f[1]) / (2 * h)
+			}
+			continue
+		}
 		var f [4]float64
 		for k, m := range [4]float64{2, 1, -1, -2} {
-			probe[i], _ = biggsEXP6BFGSCentralProbeStep(xi, m*bar)
+			probe[i], _ = biggsEXP6BFGSCentralProbeStep(xi, m*bar, lower, upper)
 			f[k] = BiggsEXP6(&probe)
 			scale = biggsEXP6BFGSCentralLarger(scale, biggsEXP6BFGSCentralMagnitude(f[k]))
 		}
 		probe[i] = xi
+		calls += 4
 		if biggsEXP6BFGSCentralFinite(f[0]) && biggsEXP6BFGSCentralFinite(f[1]) && biggsEXP6BFGSCentralFinite(f[2]) && biggsEXP6BFGSCentralFinite(f[3]) {
 			diffs.curvature[i] = biggsEXP6BFGSCentralAbs(f[0]-2*f[1]+2*f[2]-f[3]) / (2 * bar * bar * bar)
 			diffs.second[i] = biggsEXP6BFGSCentralAbs(f[1]-2*fx+f[2]) / (bar * bar)
@@ -428,7 +462,7 @@ func biggsEXP6BFGSCentralCalibrate(x *[6]float64, fx float64, diffs *biggsEXP6BF
 		diffs.ratio[i] = biggsEXP6BFGSCentralClampBetween(h, 64*biggsEXP6BFGSCentralUnitRoundoff*s, bar) / s
 		diffs.curvature[i] = third
 	}
-	return 4 * len(probe), true
+	return calls, true
 }
 
 // biggsEXP6BFGSCentralAbs returns |v|.
@@ -454,10 +488,48 @@ func biggsEXP6BFGSCentralLarger(a, b float64) float64 {
 	return b
 }
 
-// biggsEXP6BFGSCentralProbeStep returns x_i moved by h, and the step actually representable.
-func biggsEXP6BFGSCentralProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// biggsEXP6BFGSCentralCoordinateRange: without bounds any probe is allowed.
+func biggsEXP6BFGSCentralCoordinateRange(i int, diffs *biggsEXP6BFGSCentralDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// biggsEXP6BFGSCentralOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func biggsEXP6BFGSCentralOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
+}
+
+// biggsEXP6BFGSCentralProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func biggsEXP6BFGSCentralProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := biggsEXP6BFGSCentralClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// biggsEXP6BFGSCentralClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func biggsEXP6BFGSCentralClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
 }
 
 // biggsEXP6BFGSCentralMagnitude is |v| for a finite v and 0 otherwise: a probe that fell
@@ -493,42 +565,85 @@ func biggsEXP6BFGSCentralCubeRoot(v float64) float64 {
 	return math.Cbrt(v)
 }
 
-// biggsEXP6BFGSCentralClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func biggsEXP6BFGSCentralClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
-}
-
 // biggsEXP6BFGSCentralDerivative approximates the gradient by central differences,
 //
 //	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),
 //
 // with the intervals biggsEXP6BFGSCentralCalibrate chose, h_i = ratio_i·max(1, |x_i|)
-// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls; fx is
-// not needed.
-func biggsEXP6BFGSCentralDerivative(x *[6]float64, fx float64, g *[6]float64, diffs *biggsEXP6BFGSCentralDifferences) {
+// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls. Where
+// a bound leaves no room on one side, the three-point endpoint formula on
+// the other side takes its place at the same cost (see parabola); a
+// variable fixed by equal bounds costs nothing and gets 0.
+func biggsEXP6BFGSCentralDerivative(x *[6]float64, fx float64, g *[6]float64, diffs *biggsEXP6BFGSCentralDifferences) int {
 	probe := *x
+	calls := 0
 	for i := range probe {
 		xi := probe[i]
-		h := diffs.ratio[i] * biggsEXP6BFGSCentralLarger(1, biggsEXP6BFGSCentralAbs(xi))
-		up, _ := biggsEXP6BFGSCentralProbeStep(xi, h)
-		down, _ := biggsEXP6BFGSCentralProbeStep(xi, -h)
-		probe[i] = up
-		fUp := BiggsEXP6(&probe)
-		probe[i] = down
-		fDown := BiggsEXP6(&probe)
-		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
-		probe[i] = xi
+		h, oneSided := biggsEXP6BFGSCentralCentralInterval(x, i, diffs)
+		lower, upper := biggsEXP6BFGSCentralCoordinateRange(i, diffs)
+		switch {
+		case h == 0:
+			g[i] = 0 // fixed by equal bounds
+			continue
+		case oneSided:
+			g[i], _, _ = biggsEXP6BFGSCentralSidedProbes(&probe, i, fx, h, lower, upper) // the three-point endpoint formula
+		default:
+			up, _ := biggsEXP6BFGSCentralProbeStep(xi, h, lower, upper)
+			down, _ := biggsEXP6BFGSCentralProbeStep(xi, -h, lower, upper)
+			probe[i] = up
+			fUp := BiggsEXP6(&probe)
+			probe[i] = down
+			fDown := BiggsEXP6(&probe)
+			g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+			probe[i] = xi
+		}
+		calls += 2
 	}
+	return calls
+}
+
+// biggsEXP6BFGSCentralCentralInterval is the interval of coordinate i at x, ratio_i·max(1,
+// |x_i|), and whether the box leaves room for probes on both sides; when
+// it does not, the interval is signed towards the side with room for
+// probes at h and 2h, and shortened where the box is narrower than that
+// (see biggsEXP6BFGSCentralOneSide).
+func biggsEXP6BFGSCentralCentralInterval(x *[6]float64, i int, diffs *biggsEXP6BFGSCentralDifferences) (h float64, oneSided bool) {
+	lower, upper := biggsEXP6BFGSCentralCoordinateRange(i, diffs)
+	h = diffs.ratio[i] * biggsEXP6BFGSCentralLarger(1, biggsEXP6BFGSCentralAbs(x[i]))
+	if x[i]+h <= upper && x[i]-h >= lower {
+		return h, false
+	}
+	return biggsEXP6BFGSCentralOneSide(x[i], h, 2, lower, upper), true
+}
+
+// biggsEXP6BFGSCentralSidedProbes evaluates f at x moved along coordinate i by h and by 2h,
+// kept within [lower, upper], and returns the slope and second derivative
+// of the parabola through them and (x, fx) (see parabola), and the larger
+// magnitude of the two values.
+func biggsEXP6BFGSCentralSidedProbes(probe *[6]float64, i int, fx, h, lower, upper float64) (slope, second, size float64) {
+	xi := probe[i]
+	near, a := biggsEXP6BFGSCentralProbeStep(xi, h, lower, upper)
+	far, b := biggsEXP6BFGSCentralProbeStep(xi, 2*h, lower, upper)
+	probe[i] = near
+	fNear := BiggsEXP6(probe)
+	probe[i] = far
+	fFar := BiggsEXP6(probe)
+	probe[i] = xi
+	slope, second = biggsEXP6BFGSCentralParabola(fx, a, fNear, b, fFar)
+	return slope, second, biggsEXP6BFGSCentralLarger(biggsEXP6BFGSCentralMagnitude(fNear), biggsEXP6BFGSCentralMagnitude(fFar))
+}
+
+// biggsEXP6BFGSCentralParabola returns the first and second derivatives at 0 of the parabola
+// through (0, f0), (a, fa) and (b, fb), for probes on one side of a bound.
+// With b = 2a they are the three-point endpoint formulas
+// f′ ≈ (−3f0 + 4fa − fb)/(2a), error a²|f‴|/3, and
+// f″ ≈ (f0 − 2fa + fb)/a² (Burden & Faires, Numerical Analysis, §4.1
+// and §4.1's second-derivative formulas, from memory); written for unequal
+// a and b, so that the representable steps can be used.
+func biggsEXP6BFGSCentralParabola(f0, a, fa, b, fb float64) (slope, second float64) {
+	slope = -(a+b)/(a*b)*f0 + b/(a*(b-a))*fa - a/(b*(b-a))*fb
+	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
+	return slope, second
 }
 
 // biggsEXP6BFGSCentralDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
@@ -668,13 +783,13 @@ func biggsEXP6BFGSCentralConfirmGradient(x *[6]float64, fx float64, g, e *[6]flo
 		wide.ratio[i] *= 2
 	}
 	var doubled [6]float64
-	biggsEXP6BFGSCentralDerivative(x, fx, g, diffs)
-	biggsEXP6BFGSCentralDerivative(x, fx, &doubled, &wide)
+	calls += biggsEXP6BFGSCentralDerivative(x, fx, g, diffs)
+	calls += biggsEXP6BFGSCentralDerivative(x, fx, &doubled, &wide)
 	biggsEXP6BFGSCentralGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * biggsEXP6BFGSCentralAbs(g[i]-doubled[i])
 	}
-	return calls + 2*biggsEXP6BFGSCentralDerivativeCost, true
+	return calls, true
 }
 
 // biggsEXP6BFGSCentralGradientError bounds each central difference's error by twice its
@@ -684,8 +799,16 @@ func biggsEXP6BFGSCentralConfirmGradient(x *[6]float64, fx float64, g, e *[6]flo
 func biggsEXP6BFGSCentralGradientError(x *[6]float64, fx float64, g, e *[6]float64, diffs *biggsEXP6BFGSCentralDifferences) {
 	noise := biggsEXP6BFGSCentralNoiseLevel(x, fx, g)
 	for i := range e {
-		h := diffs.ratio[i] * biggsEXP6BFGSCentralLarger(1, biggsEXP6BFGSCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		h, oneSided := biggsEXP6BFGSCentralCentralInterval(x, i, diffs)
+		h = biggsEXP6BFGSCentralAbs(h)
+		switch {
+		case h == 0:
+			e[i] = 0 // fixed by equal bounds
+		case oneSided:
+			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+		default:
+			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		}
 	}
 }
 
@@ -707,6 +830,11 @@ func biggsEXP6BFGSCentralRoundingFloor(x, g, e *[6]float64, diffs *biggsEXP6BFGS
 // calibration, which biggsEXP6BFGSCentralConfirmGradient has just made at x.
 func biggsEXP6BFGSCentralDiagonalCurvature(x, g *[6]float64, diffs *biggsEXP6BFGSCentralDifferences, h *[6]float64) {
 	*h = diffs.second
+}
+
+// biggsEXP6BFGSCentralStationarity measures the gradient itself.
+func biggsEXP6BFGSCentralStationarity(g, e, x *[6]float64, fx float64, b *biggsEXP6BFGSCentralBox) (measure, floor float64) {
+	return biggsEXP6BFGSCentralGradientMeasure(g, e, x, fx)
 }
 
 // biggsEXP6BFGSCentralGradientMeasure is the scale-free measure
@@ -742,6 +870,14 @@ func biggsEXP6BFGSCentralStepWithin(s, x *[6]float64, tol float64) bool {
 	return true
 }
 
+// biggsEXP6BFGSCentralCurvaturePair: without bounds the pair is used as it is.
+func biggsEXP6BFGSCentralCurvaturePair(s, y, x *[6]float64, b *biggsEXP6BFGSCentralBox) {}
+
+// biggsEXP6BFGSCentralSearchDirection is the direction's own.
+func biggsEXP6BFGSCentralSearchDirection(dir *biggsEXP6BFGSCentralDirection, x, g, d *[6]float64, b *biggsEXP6BFGSCentralBox) {
+	dir.compute(g, d)
+}
+
 // biggsEXP6BFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func biggsEXP6BFGSCentralTinyStep(x, d *[6]float64, tol float64) float64 {
@@ -769,7 +905,10 @@ func biggsEXP6BFGSCentralTinyStep(x, d *[6]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (biggsEXP6BFGSCentralStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -778,13 +917,17 @@ func biggsEXP6BFGSCentralTinyStep(x, d *[6]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func biggsEXP6BFGSCentralLineSearch(x *[6]float64, fx float64, d *[6]float64, slope, first, tiny float64, budget int, xt, gt *[6]float64, diffs *biggsEXP6BFGSCentralDifferences) biggsEXP6BFGSCentralLineResult {
+func biggsEXP6BFGSCentralLineSearch(x *[6]float64, fx float64, g, d *[6]float64, slope, first, tiny float64, budget int, xt, gt *[6]float64, diffs *biggsEXP6BFGSCentralDifferences) biggsEXP6BFGSCentralLineResult {
 	low := biggsEXP6BFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high biggsEXP6BFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [6]float64                                                    // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend biggsEXP6BFGSCentralRiseTrend // of the trials failing sufficient decrease
+	var trend biggsEXP6BFGSCentralRiseTrend                         // of the trials failing sufficient decrease
+	limit := biggsEXP6BFGSCentralStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < biggsEXP6BFGSCentralStepTrials; trial++ {
 		if bracketed && biggsEXP6BFGSCentralAbs(high.step-low.step) <= tiny {
@@ -794,12 +937,12 @@ func biggsEXP6BFGSCentralLineSearch(x *[6]float64, fx float64, d *[6]float64, sl
 			if low.step == 0 {
 				return biggsEXP6BFGSCentralLineResult{calls: calls, rising: trend.contradicts(), end: biggsEXP6BFGSCentralTinyOrExhausted(biggsEXP6BFGSCentralFinite(high.value))}
 			}
-			return biggsEXP6BFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return biggsEXP6BFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return biggsEXP6BFGSCentralLineResult{calls: calls, end: biggsEXP6BFGSCentralSearchOutOfBudget}
 		}
-		biggsEXP6BFGSCentralMoveTo(xt, x, t, d)
+		biggsEXP6BFGSCentralTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := biggsEXP6BFGSCentralLinePoint{step: t, value: BiggsEXP6(xt)}
 		calls++
 		previous := low
@@ -810,8 +953,7 @@ func biggsEXP6BFGSCentralLineSearch(x *[6]float64, fx float64, d *[6]float64, sl
 			if calls+biggsEXP6BFGSCentralDerivativeCost > budget {
 				return biggsEXP6BFGSCentralLineResult{calls: calls, end: biggsEXP6BFGSCentralSearchOutOfBudget}
 			}
-			biggsEXP6BFGSCentralDerivative(xt, current.value, gt, diffs)
-			calls += biggsEXP6BFGSCentralDerivativeCost
+			calls += biggsEXP6BFGSCentralDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = biggsEXP6BFGSCentralDot(gt, d), true
 			switch {
 			case !biggsEXP6BFGSCentralFinite(current.slope):
@@ -822,18 +964,22 @@ func biggsEXP6BFGSCentralLineSearch(x *[6]float64, fx float64, d *[6]float64, sl
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return biggsEXP6BFGSCentralLineResult{step: t, value: current.value, calls: calls, gradient: true, end: biggsEXP6BFGSCentralSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = biggsEXP6BFGSCentralZoomTrial(&low, &high)
-		} else {
-			t = biggsEXP6BFGSCentralExpandTrial(&previous, &current)
+		} else if t = biggsEXP6BFGSCentralExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return biggsEXP6BFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return biggsEXP6BFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return biggsEXP6BFGSCentralLineResult{calls: calls, rising: trend.contradicts(), end: biggsEXP6BFGSCentralSearchExhausted}
 }
@@ -920,6 +1066,11 @@ func biggsEXP6BFGSCentralFaithfulStep(x, xt, d *[6]float64, t float64) bool {
 	return true
 }
 
+// biggsEXP6BFGSCentralStepCap: without bounds a step may be as long as the search wants.
+func biggsEXP6BFGSCentralStepCap(x, d *[6]float64, tiny float64, b *biggsEXP6BFGSCentralBox) float64 {
+	return math.Inf(1)
+}
+
 // biggsEXP6BFGSCentralTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -944,10 +1095,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func biggsEXP6BFGSCentralAcceptLow(x, d *[6]float64, low *biggsEXP6BFGSCentralLinePoint, lowGradient *[6]float64, calls int, xt, gt *[6]float64) biggsEXP6BFGSCentralLineResult {
-	biggsEXP6BFGSCentralMoveTo(xt, x, low.step, d)
+func biggsEXP6BFGSCentralAcceptLow(x, d *[6]float64, low *biggsEXP6BFGSCentralLinePoint, lowGradient *[6]float64, calls int, xt, gt *[6]float64, diffs *biggsEXP6BFGSCentralDifferences) biggsEXP6BFGSCentralLineResult {
+	biggsEXP6BFGSCentralTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return biggsEXP6BFGSCentralLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: biggsEXP6BFGSCentralSearchAccepted}
+}
+
+// biggsEXP6BFGSCentralTrialPoint is x + t·d.
+func biggsEXP6BFGSCentralTrialPoint(out, x *[6]float64, t float64, d *[6]float64, b *biggsEXP6BFGSCentralBox) {
+	biggsEXP6BFGSCentralMoveTo(out, x, t, d)
 }
 
 // biggsEXP6BFGSCentralMoveTo sets out = x + t·d.

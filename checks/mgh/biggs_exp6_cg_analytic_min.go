@@ -88,6 +88,9 @@ func BiggsEXP6CGAnalyticDefaultLimits() BiggsEXP6CGAnalyticLimits {
 	}
 }
 
+// biggsEXP6CGAnalyticBox is empty: mgh.toml sets no bounds on BiggsEXP6CGAnalytic.
+type biggsEXP6CGAnalyticBox struct{}
+
 // BiggsEXP6CGAnalytic minimizes BiggsEXP6 from x0, as mgh.toml specifies.
 //
 // Direction cg: nonlinear conjugate gradients, Polak–Ribière clipped at zero (PR+), restarted every dim steps.
@@ -105,7 +108,7 @@ func BiggsEXP6CGAnalytic(x0 [6]float64) BiggsEXP6CGAnalyticResult {
 
 // BiggsEXP6CGAnalyticWithLimits is BiggsEXP6CGAnalytic with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func BiggsEXP6CGAnalyticWithLimits(x0 [6]float64, limits BiggsEXP6CGAnalyticLimits) BiggsEXP6CGAnalyticResult {
-	out := biggsEXP6CGAnalyticMinimize(x0, limits)
+	out := biggsEXP6CGAnalyticMinimize(x0, limits, biggsEXP6CGAnalyticBox{})
 	return BiggsEXP6CGAnalyticResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func biggsEXP6CGAnalyticMinimize(x0 [6]float64, lim BiggsEXP6CGAnalyticLimits) biggsEXP6CGAnalyticOutcome {
-	out := biggsEXP6CGAnalyticOutcome{x: x0, status: BiggsEXP6CGAnalyticOutOfEvaluations, gradient: math.NaN()}
+func biggsEXP6CGAnalyticMinimize(x0 [6]float64, lim BiggsEXP6CGAnalyticLimits, bounds biggsEXP6CGAnalyticBox) biggsEXP6CGAnalyticOutcome {
+	x := x0
+	biggsEXP6CGAnalyticEnterBox(&x, &bounds)
+	out := biggsEXP6CGAnalyticOutcome{x: x, status: BiggsEXP6CGAnalyticOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := BiggsEXP6(&x)
 	out.f, out.evaluations = fx, 1
 	if !biggsEXP6CGAnalyticFinite(fx) || !biggsEXP6CGAnalyticFiniteVec(&x) {
 		out.status = BiggsEXP6CGAnalyticNonFiniteStart
 		return out
 	}
-	var diffs biggsEXP6CGAnalyticDifferences
+	diffs := biggsEXP6CGAnalyticDifferences{bounds: bounds}
 	calls, ok := biggsEXP6CGAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+biggsEXP6CGAnalyticDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [6]float64
-	biggsEXP6CGAnalyticDerivative(&x, fx, &g, &diffs)
-	out.evaluations += biggsEXP6CGAnalyticDerivativeCost
+	out.evaluations += biggsEXP6CGAnalyticDerivative(&x, fx, &g, &diffs)
 
 	if !biggsEXP6CGAnalyticFiniteVec(&g) {
 		out.status = BiggsEXP6CGAnalyticNonFiniteGradient
@@ -211,7 +214,7 @@ func biggsEXP6CGAnalyticMinimize(x0 [6]float64, lim BiggsEXP6CGAnalyticLimits) b
 		case !confirmed:
 			biggsEXP6CGAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := biggsEXP6CGAnalyticGradientMeasure(&g, &e, &x, fx)
+		measure, floor := biggsEXP6CGAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, biggsEXP6CGAnalyticLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func biggsEXP6CGAnalyticMinimize(x0 [6]float64, lim BiggsEXP6CGAnalyticLimits) b
 			if rises >= 8 {
 				return best.ending(BiggsEXP6CGAnalyticDiverged, out.iterations, out.evaluations)
 			}
+			biggsEXP6CGAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(BiggsEXP6CGAnalyticOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		biggsEXP6CGAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := biggsEXP6CGAnalyticDot(&g, &d)
 		if !(now < 0) || !biggsEXP6CGAnalyticFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			biggsEXP6CGAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = biggsEXP6CGAnalyticDot(&g, &d)
 		}
 		first := float64(biggsEXP6CGAnalyticStepInitial)
@@ -267,7 +271,7 @@ func biggsEXP6CGAnalyticMinimize(x0 [6]float64, lim BiggsEXP6CGAnalyticLimits) b
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := biggsEXP6CGAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := biggsEXP6CGAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := biggsEXP6CGAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case biggsEXP6CGAnalyticSearchOutOfBudget:
@@ -303,8 +307,7 @@ func biggsEXP6CGAnalyticMinimize(x0 [6]float64, lim BiggsEXP6CGAnalyticLimits) b
 				}
 				return best.ending(BiggsEXP6CGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			biggsEXP6CGAnalyticDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += biggsEXP6CGAnalyticDerivativeCost
+			out.evaluations += biggsEXP6CGAnalyticDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		biggsEXP6CGAnalyticDifference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o biggsEXP6CGAnalyticOutcome) ending(end BiggsEXP6CGAnalyticStatus, iterat
 	return o
 }
 
+// biggsEXP6CGAnalyticEnterBox: without bounds every start is inside.
+func biggsEXP6CGAnalyticEnterBox(x *[6]float64, b *biggsEXP6CGAnalyticBox) {}
+
 // biggsEXP6CGAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func biggsEXP6CGAnalyticFiniteVec(x *[6]float64) bool {
 	return true
 }
 
-// biggsEXP6CGAnalyticDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// biggsEXP6CGAnalyticDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type biggsEXP6CGAnalyticDifferences struct {
 	ratio     [6]float64
 	curvature [6]float64
 	second    [6]float64 // |f″| along e_i, for the rounding floor of a stall (see biggsEXP6CGAnalyticRoundingFloor)
+	bounds    biggsEXP6CGAnalyticBox
 }
 
 // biggsEXP6CGAnalyticCalibrate: an analytic gradient needs no intervals.
@@ -384,8 +392,9 @@ func biggsEXP6CGAnalyticCalibrate(x *[6]float64, fx float64, diffs *biggsEXP6CGA
 }
 
 // biggsEXP6CGAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func biggsEXP6CGAnalyticDerivative(x *[6]float64, fx float64, g *[6]float64, diffs *biggsEXP6CGAnalyticDifferences) {
+func biggsEXP6CGAnalyticDerivative(x *[6]float64, fx float64, g *[6]float64, diffs *biggsEXP6CGAnalyticDifferences) int {
 	BiggsEXP6Grad(x, g)
+	return 0
 }
 
 // biggsEXP6CGAnalyticDirection is nonlinear conjugate gradients with the Polak–Ribière
@@ -517,13 +526,13 @@ func biggsEXP6CGAnalyticConfirmGradient(x *[6]float64, fx float64, g, e *[6]floa
 		wide.ratio[i] *= 2
 	}
 	var doubled [6]float64
-	biggsEXP6CGAnalyticDerivative(x, fx, g, diffs)
-	biggsEXP6CGAnalyticDerivative(x, fx, &doubled, &wide)
+	calls += biggsEXP6CGAnalyticDerivative(x, fx, g, diffs)
+	calls += biggsEXP6CGAnalyticDerivative(x, fx, &doubled, &wide)
 	biggsEXP6CGAnalyticGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * biggsEXP6CGAnalyticAbs(g[i]-doubled[i])
 	}
-	return calls + 2*biggsEXP6CGAnalyticDerivativeCost, true
+	return calls, true
 }
 
 // biggsEXP6CGAnalyticGradientError: the analytic gradient is taken as exact; its error is
@@ -565,23 +574,70 @@ func biggsEXP6CGAnalyticDiagonalCurvature(x, g *[6]float64, diffs *biggsEXP6CGAn
 	var moved [6]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := biggsEXP6CGAnalyticProbeStep(xi, biggsEXP6CGAnalyticSquareRoot(biggsEXP6CGAnalyticUnitRoundoff)*biggsEXP6CGAnalyticLarger(1, biggsEXP6CGAnalyticAbs(xi)))
-		probe[i] = up
-		BiggsEXP6Grad(&probe, &moved)
-		h[i] = biggsEXP6CGAnalyticAbs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := biggsEXP6CGAnalyticCoordinateRange(i, diffs)
+		up, delta := biggsEXP6CGAnalyticProbeStep(xi, biggsEXP6CGAnalyticOneSide(xi, biggsEXP6CGAnalyticSquareRoot(biggsEXP6CGAnalyticUnitRoundoff)*biggsEXP6CGAnalyticLarger(1, biggsEXP6CGAnalyticAbs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			BiggsEXP6Grad(&probe, &moved)
+			h[i] = biggsEXP6CGAnalyticAbs(moved[i]-g[i]) / biggsEXP6CGAnalyticAbs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// biggsEXP6CGAnalyticProbeStep returns x_i moved by h, and the step actually representable.
-func biggsEXP6CGAnalyticProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// biggsEXP6CGAnalyticCoordinateRange: without bounds any probe is allowed.
+func biggsEXP6CGAnalyticCoordinateRange(i int, diffs *biggsEXP6CGAnalyticDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// biggsEXP6CGAnalyticProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func biggsEXP6CGAnalyticProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := biggsEXP6CGAnalyticClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// biggsEXP6CGAnalyticClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func biggsEXP6CGAnalyticClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// biggsEXP6CGAnalyticOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func biggsEXP6CGAnalyticOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // biggsEXP6CGAnalyticSquareRoot returns √v.
 func biggsEXP6CGAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// biggsEXP6CGAnalyticStationarity measures the gradient itself.
+func biggsEXP6CGAnalyticStationarity(g, e, x *[6]float64, fx float64, b *biggsEXP6CGAnalyticBox) (measure, floor float64) {
+	return biggsEXP6CGAnalyticGradientMeasure(g, e, x, fx)
 }
 
 // biggsEXP6CGAnalyticGradientMeasure is the scale-free measure
@@ -617,6 +673,14 @@ func biggsEXP6CGAnalyticStepWithin(s, x *[6]float64, tol float64) bool {
 	return true
 }
 
+// biggsEXP6CGAnalyticCurvaturePair: without bounds the pair is used as it is.
+func biggsEXP6CGAnalyticCurvaturePair(s, y, x *[6]float64, b *biggsEXP6CGAnalyticBox) {}
+
+// biggsEXP6CGAnalyticSearchDirection is the direction's own.
+func biggsEXP6CGAnalyticSearchDirection(dir *biggsEXP6CGAnalyticDirection, x, g, d *[6]float64, b *biggsEXP6CGAnalyticBox) {
+	dir.compute(g, d)
+}
+
 // biggsEXP6CGAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func biggsEXP6CGAnalyticTinyStep(x, d *[6]float64, tol float64) float64 {
@@ -644,7 +708,10 @@ func biggsEXP6CGAnalyticTinyStep(x, d *[6]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (biggsEXP6CGAnalyticStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -653,13 +720,17 @@ func biggsEXP6CGAnalyticTinyStep(x, d *[6]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func biggsEXP6CGAnalyticLineSearch(x *[6]float64, fx float64, d *[6]float64, slope, first, tiny float64, budget int, xt, gt *[6]float64, diffs *biggsEXP6CGAnalyticDifferences) biggsEXP6CGAnalyticLineResult {
+func biggsEXP6CGAnalyticLineSearch(x *[6]float64, fx float64, g, d *[6]float64, slope, first, tiny float64, budget int, xt, gt *[6]float64, diffs *biggsEXP6CGAnalyticDifferences) biggsEXP6CGAnalyticLineResult {
 	low := biggsEXP6CGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high biggsEXP6CGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [6]float64                                                   // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend biggsEXP6CGAnalyticRiseTrend // of the trials failing sufficient decrease
+	var trend biggsEXP6CGAnalyticRiseTrend                         // of the trials failing sufficient decrease
+	limit := biggsEXP6CGAnalyticStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < biggsEXP6CGAnalyticStepTrials; trial++ {
 		if bracketed && biggsEXP6CGAnalyticAbs(high.step-low.step) <= tiny {
@@ -669,12 +740,12 @@ func biggsEXP6CGAnalyticLineSearch(x *[6]float64, fx float64, d *[6]float64, slo
 			if low.step == 0 {
 				return biggsEXP6CGAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: biggsEXP6CGAnalyticTinyOrExhausted(biggsEXP6CGAnalyticFinite(high.value))}
 			}
-			return biggsEXP6CGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return biggsEXP6CGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return biggsEXP6CGAnalyticLineResult{calls: calls, end: biggsEXP6CGAnalyticSearchOutOfBudget}
 		}
-		biggsEXP6CGAnalyticMoveTo(xt, x, t, d)
+		biggsEXP6CGAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := biggsEXP6CGAnalyticLinePoint{step: t, value: BiggsEXP6(xt)}
 		calls++
 		previous := low
@@ -685,8 +756,7 @@ func biggsEXP6CGAnalyticLineSearch(x *[6]float64, fx float64, d *[6]float64, slo
 			if calls+biggsEXP6CGAnalyticDerivativeCost > budget {
 				return biggsEXP6CGAnalyticLineResult{calls: calls, end: biggsEXP6CGAnalyticSearchOutOfBudget}
 			}
-			biggsEXP6CGAnalyticDerivative(xt, current.value, gt, diffs)
-			calls += biggsEXP6CGAnalyticDerivativeCost
+			calls += biggsEXP6CGAnalyticDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = biggsEXP6CGAnalyticDot(gt, d), true
 			switch {
 			case !biggsEXP6CGAnalyticFinite(current.slope):
@@ -697,18 +767,22 @@ func biggsEXP6CGAnalyticLineSearch(x *[6]float64, fx float64, d *[6]float64, slo
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return biggsEXP6CGAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: biggsEXP6CGAnalyticSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = biggsEXP6CGAnalyticZoomTrial(&low, &high)
-		} else {
-			t = biggsEXP6CGAnalyticExpandTrial(&previous, &current)
+		} else if t = biggsEXP6CGAnalyticExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return biggsEXP6CGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return biggsEXP6CGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return biggsEXP6CGAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: biggsEXP6CGAnalyticSearchExhausted}
 }
@@ -795,6 +869,11 @@ func biggsEXP6CGAnalyticFaithfulStep(x, xt, d *[6]float64, t float64) bool {
 	return true
 }
 
+// biggsEXP6CGAnalyticStepCap: without bounds a step may be as long as the search wants.
+func biggsEXP6CGAnalyticStepCap(x, d *[6]float64, tiny float64, b *biggsEXP6CGAnalyticBox) float64 {
+	return math.Inf(1)
+}
+
 // biggsEXP6CGAnalyticTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -819,10 +898,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func biggsEXP6CGAnalyticAcceptLow(x, d *[6]float64, low *biggsEXP6CGAnalyticLinePoint, lowGradient *[6]float64, calls int, xt, gt *[6]float64) biggsEXP6CGAnalyticLineResult {
-	biggsEXP6CGAnalyticMoveTo(xt, x, low.step, d)
+func biggsEXP6CGAnalyticAcceptLow(x, d *[6]float64, low *biggsEXP6CGAnalyticLinePoint, lowGradient *[6]float64, calls int, xt, gt *[6]float64, diffs *biggsEXP6CGAnalyticDifferences) biggsEXP6CGAnalyticLineResult {
+	biggsEXP6CGAnalyticTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return biggsEXP6CGAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: biggsEXP6CGAnalyticSearchAccepted}
+}
+
+// biggsEXP6CGAnalyticTrialPoint is x + t·d.
+func biggsEXP6CGAnalyticTrialPoint(out, x *[6]float64, t float64, d *[6]float64, b *biggsEXP6CGAnalyticBox) {
+	biggsEXP6CGAnalyticMoveTo(out, x, t, d)
 }
 
 // biggsEXP6CGAnalyticMoveTo sets out = x + t·d.
@@ -877,21 +961,6 @@ func biggsEXP6CGAnalyticModelMinimizer(a, b *biggsEXP6CGAnalyticLinePoint) (t fl
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, biggsEXP6CGAnalyticFinite(t)
-}
-
-// biggsEXP6CGAnalyticClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func biggsEXP6CGAnalyticClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // biggsEXP6CGAnalyticExpandTrial picks a larger trial after current met sufficient decrease

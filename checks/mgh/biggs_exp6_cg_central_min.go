@@ -88,6 +88,9 @@ func BiggsEXP6CGCentralDefaultLimits() BiggsEXP6CGCentralLimits {
 	}
 }
 
+// biggsEXP6CGCentralBox is empty: mgh.toml sets no bounds on BiggsEXP6CGCentral.
+type biggsEXP6CGCentralBox struct{}
+
 // BiggsEXP6CGCentral minimizes BiggsEXP6 from x0, as mgh.toml specifies.
 //
 // Direction cg: nonlinear conjugate gradients, Polak–Ribière clipped at zero (PR+), restarted every dim steps.
@@ -105,7 +108,7 @@ func BiggsEXP6CGCentral(x0 [6]float64) BiggsEXP6CGCentralResult {
 
 // BiggsEXP6CGCentralWithLimits is BiggsEXP6CGCentral with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func BiggsEXP6CGCentralWithLimits(x0 [6]float64, limits BiggsEXP6CGCentralLimits) BiggsEXP6CGCentralResult {
-	out := biggsEXP6CGCentralMinimize(x0, limits)
+	out := biggsEXP6CGCentralMinimize(x0, limits, biggsEXP6CGCentralBox{})
 	return BiggsEXP6CGCentralResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func biggsEXP6CGCentralMinimize(x0 [6]float64, lim BiggsEXP6CGCentralLimits) biggsEXP6CGCentralOutcome {
-	out := biggsEXP6CGCentralOutcome{x: x0, status: BiggsEXP6CGCentralOutOfEvaluations, gradient: math.NaN()}
+func biggsEXP6CGCentralMinimize(x0 [6]float64, lim BiggsEXP6CGCentralLimits, bounds biggsEXP6CGCentralBox) biggsEXP6CGCentralOutcome {
+	x := x0
+	biggsEXP6CGCentralEnterBox(&x, &bounds)
+	out := biggsEXP6CGCentralOutcome{x: x, status: BiggsEXP6CGCentralOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := BiggsEXP6(&x)
 	out.f, out.evaluations = fx, 1
 	if !biggsEXP6CGCentralFinite(fx) || !biggsEXP6CGCentralFiniteVec(&x) {
 		out.status = BiggsEXP6CGCentralNonFiniteStart
 		return out
 	}
-	var diffs biggsEXP6CGCentralDifferences
+	diffs := biggsEXP6CGCentralDifferences{bounds: bounds}
 	calls, ok := biggsEXP6CGCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+biggsEXP6CGCentralDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [6]float64
-	biggsEXP6CGCentralDerivative(&x, fx, &g, &diffs)
-	out.evaluations += biggsEXP6CGCentralDerivativeCost
+	out.evaluations += biggsEXP6CGCentralDerivative(&x, fx, &g, &diffs)
 
 	if !biggsEXP6CGCentralFiniteVec(&g) {
 		out.status = BiggsEXP6CGCentralNonFiniteGradient
@@ -211,7 +214,7 @@ func biggsEXP6CGCentralMinimize(x0 [6]float64, lim BiggsEXP6CGCentralLimits) big
 		case !confirmed:
 			biggsEXP6CGCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := biggsEXP6CGCentralGradientMeasure(&g, &e, &x, fx)
+		measure, floor := biggsEXP6CGCentralStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, biggsEXP6CGCentralLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func biggsEXP6CGCentralMinimize(x0 [6]float64, lim BiggsEXP6CGCentralLimits) big
 			if rises >= 8 {
 				return best.ending(BiggsEXP6CGCentralDiverged, out.iterations, out.evaluations)
 			}
+			biggsEXP6CGCentralCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(BiggsEXP6CGCentralOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		biggsEXP6CGCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := biggsEXP6CGCentralDot(&g, &d)
 		if !(now < 0) || !biggsEXP6CGCentralFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			biggsEXP6CGCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = biggsEXP6CGCentralDot(&g, &d)
 		}
 		first := float64(biggsEXP6CGCentralStepInitial)
@@ -267,7 +271,7 @@ func biggsEXP6CGCentralMinimize(x0 [6]float64, lim BiggsEXP6CGCentralLimits) big
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := biggsEXP6CGCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := biggsEXP6CGCentralLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := biggsEXP6CGCentralLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case biggsEXP6CGCentralSearchOutOfBudget:
@@ -303,8 +307,7 @@ func biggsEXP6CGCentralMinimize(x0 [6]float64, lim BiggsEXP6CGCentralLimits) big
 				}
 				return best.ending(BiggsEXP6CGCentralOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			biggsEXP6CGCentralDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += biggsEXP6CGCentralDerivativeCost
+			out.evaluations += biggsEXP6CGCentralDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		biggsEXP6CGCentralDifference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o biggsEXP6CGCentralOutcome) ending(end BiggsEXP6CGCentralStatus, iteratio
 	return o
 }
 
+// biggsEXP6CGCentralEnterBox: without bounds every start is inside.
+func biggsEXP6CGCentralEnterBox(x *[6]float64, b *biggsEXP6CGCentralBox) {}
+
 // biggsEXP6CGCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func biggsEXP6CGCentralFiniteVec(x *[6]float64) bool {
 	return true
 }
 
-// biggsEXP6CGCentralDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// biggsEXP6CGCentralDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type biggsEXP6CGCentralDifferences struct {
 	ratio     [6]float64
 	curvature [6]float64
 	second    [6]float64 // |f″| along e_i, for the rounding floor of a stall (see biggsEXP6CGCentralRoundingFloor)
+	bounds    biggsEXP6CGCentralBox
 }
 
 // biggsEXP6CGCentralCalibrate chooses each central-difference interval from the
@@ -397,19 +405,45 @@ func biggsEXP6CGCentralCalibrate(x *[6]float64, fx float64, diffs *biggsEXP6CGCe
 	var slope [6]float64
 	scale := biggsEXP6CGCentralAbs(fx)
 	quarter := biggsEXP6CGCentralSquareRoot(biggsEXP6CGCentralSquareRoot(biggsEXP6CGCentralUnitRoundoff)) // u^(1/4)
+	calls := 0
 	for i := range probe {
-		if 4*(i+1) > budget {
-			return 4 * i, false
+		if calls+4 > budget {
+			return calls, false
 		}
 		xi := probe[i]
 		bar := quarter * biggsEXP6CGCentralLarger(1, biggsEXP6CGCentralAbs(xi))
+		lower, upper := biggsEXP6CGCentralCoordinateRange(i, diffs)
+		if xi+2*bar > upper || xi-2*bar < lower {
+			// At a bound: three probes on the side with room, at h, 2h
+			// and 3h, for f‴ ≈ (f(3h) − 3f(2h) + 3f(h) − f(0))/h³ (the
+			// third forward difference).
+			h := biggsEXP6CGCentralOneSide(xi, bar, 3, lower, upper)
+			if h == 0 {
+				continue // fixed by equal bounds
+			}
+			var f [3]float64
+			for k := range f {
+				probe[i], _ = biggsEXP6CGCentralProbeStep(xi, float64(k+1)*h, lower, upper)
+				f[k] = BiggsEXP6(&probe)
+				scale = biggsEXP6CGCentralLarger(scale, biggsEXP6CGCentralMagnitude(f[k]))
+			}
+			probe[i] = xi
+			calls += 3
+			if biggsEXP6CGCentralFinite(f[0]) && biggsEXP6CGCentralFinite(f[1]) && biggsEXP6CGCentralFinite(f[2]) {
+				diffs.curvature[i] = biggsEXP6CGCentralAbs(f[2]-3*f[1]+3*f[0]-fx) / biggsEXP6CGCentralAbs(h*h*h)
+				diffs.second[i] = biggsEXP6CGCentralAbs(fx-2*f[0]+f[1]) / (h * h)
+				slope[i] = (-3*fx + 4*f[0] - f[1]) / (2 * h)
+			}
+			continue
+		}
 		var f [4]float64
 		for k, m := range [4]float64{2, 1, -1, -2} {
-			probe[i], _ = biggsEXP6CGCentralProbeStep(xi, m*bar)
+			probe[i], _ = biggsEXP6CGCentralProbeStep(xi, m*bar, lower, upper)
 			f[k] = BiggsEXP6(&probe)
 			scale = biggsEXP6CGCentralLarger(scale, biggsEXP6CGCentralMagnitude(f[k]))
 		}
 		probe[i] = xi
+		calls += 4
 		if biggsEXP6CGCentralFinite(f[0]) && biggsEXP6CGCentralFinite(f[1]) && biggsEXP6CGCentralFinite(f[2]) && biggsEXP6CGCentralFinite(f[3]) {
 			diffs.curvature[i] = biggsEXP6CGCentralAbs(f[0]-2*f[1]+2*f[2]-f[3]) / (2 * bar * bar * bar)
 			diffs.second[i] = biggsEXP6CGCentralAbs(f[1]-2*fx+f[2]) / (bar * bar)
@@ -428,7 +462,7 @@ func biggsEXP6CGCentralCalibrate(x *[6]float64, fx float64, diffs *biggsEXP6CGCe
 		diffs.ratio[i] = biggsEXP6CGCentralClampBetween(h, 64*biggsEXP6CGCentralUnitRoundoff*s, bar) / s
 		diffs.curvature[i] = third
 	}
-	return 4 * len(probe), true
+	return calls, true
 }
 
 // biggsEXP6CGCentralAbs returns |v|.
@@ -454,10 +488,48 @@ func biggsEXP6CGCentralLarger(a, b float64) float64 {
 	return b
 }
 
-// biggsEXP6CGCentralProbeStep returns x_i moved by h, and the step actually representable.
-func biggsEXP6CGCentralProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// biggsEXP6CGCentralCoordinateRange: without bounds any probe is allowed.
+func biggsEXP6CGCentralCoordinateRange(i int, diffs *biggsEXP6CGCentralDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// biggsEXP6CGCentralOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func biggsEXP6CGCentralOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
+}
+
+// biggsEXP6CGCentralProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func biggsEXP6CGCentralProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := biggsEXP6CGCentralClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// biggsEXP6CGCentralClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func biggsEXP6CGCentralClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
 }
 
 // biggsEXP6CGCentralMagnitude is |v| for a finite v and 0 otherwise: a probe that fell
@@ -493,42 +565,85 @@ func biggsEXP6CGCentralCubeRoot(v float64) float64 {
 	return math.Cbrt(v)
 }
 
-// biggsEXP6CGCentralClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func biggsEXP6CGCentralClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
-}
-
 // biggsEXP6CGCentralDerivative approximates the gradient by central differences,
 //
 //	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),
 //
 // with the intervals biggsEXP6CGCentralCalibrate chose, h_i = ratio_i·max(1, |x_i|)
-// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls; fx is
-// not needed.
-func biggsEXP6CGCentralDerivative(x *[6]float64, fx float64, g *[6]float64, diffs *biggsEXP6CGCentralDifferences) {
+// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls. Where
+// a bound leaves no room on one side, the three-point endpoint formula on
+// the other side takes its place at the same cost (see parabola); a
+// variable fixed by equal bounds costs nothing and gets 0.
+func biggsEXP6CGCentralDerivative(x *[6]float64, fx float64, g *[6]float64, diffs *biggsEXP6CGCentralDifferences) int {
 	probe := *x
+	calls := 0
 	for i := range probe {
 		xi := probe[i]
-		h := diffs.ratio[i] * biggsEXP6CGCentralLarger(1, biggsEXP6CGCentralAbs(xi))
-		up, _ := biggsEXP6CGCentralProbeStep(xi, h)
-		down, _ := biggsEXP6CGCentralProbeStep(xi, -h)
-		probe[i] = up
-		fUp := BiggsEXP6(&probe)
-		probe[i] = down
-		fDown := BiggsEXP6(&probe)
-		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
-		probe[i] = xi
+		h, oneSided := biggsEXP6CGCentralCentralInterval(x, i, diffs)
+		lower, upper := biggsEXP6CGCentralCoordinateRange(i, diffs)
+		switch {
+		case h == 0:
+			g[i] = 0 // fixed by equal bounds
+			continue
+		case oneSided:
+			g[i], _, _ = biggsEXP6CGCentralSidedProbes(&probe, i, fx, h, lower, upper) // the three-point endpoint formula
+		default:
+			up, _ := biggsEXP6CGCentralProbeStep(xi, h, lower, upper)
+			down, _ := biggsEXP6CGCentralProbeStep(xi, -h, lower, upper)
+			probe[i] = up
+			fUp := BiggsEXP6(&probe)
+			probe[i] = down
+			fDown := BiggsEXP6(&probe)
+			g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+			probe[i] = xi
+		}
+		calls += 2
 	}
+	return calls
+}
+
+// biggsEXP6CGCentralCentralInterval is the interval of coordinate i at x, ratio_i·max(1,
+// |x_i|), and whether the box leaves room for probes on both sides; when
+// it does not, the interval is signed towards the side with room for
+// probes at h and 2h, and shortened where the box is narrower than that
+// (see biggsEXP6CGCentralOneSide).
+func biggsEXP6CGCentralCentralInterval(x *[6]float64, i int, diffs *biggsEXP6CGCentralDifferences) (h float64, oneSided bool) {
+	lower, upper := biggsEXP6CGCentralCoordinateRange(i, diffs)
+	h = diffs.ratio[i] * biggsEXP6CGCentralLarger(1, biggsEXP6CGCentralAbs(x[i]))
+	if x[i]+h <= upper && x[i]-h >= lower {
+		return h, false
+	}
+	return biggsEXP6CGCentralOneSide(x[i], h, 2, lower, upper), true
+}
+
+// biggsEXP6CGCentralSidedProbes evaluates f at x moved along coordinate i by h and by 2h,
+// kept within [lower, upper], and returns the slope and second derivative
+// of the parabola through them and (x, fx) (see parabola), and the larger
+// magnitude of the two values.
+func biggsEXP6CGCentralSidedProbes(probe *[6]float64, i int, fx, h, lower, upper float64) (slope, second, size float64) {
+	xi := probe[i]
+	near, a := biggsEXP6CGCentralProbeStep(xi, h, lower, upper)
+	far, b := biggsEXP6CGCentralProbeStep(xi, 2*h, lower, upper)
+	probe[i] = near
+	fNear := BiggsEXP6(probe)
+	probe[i] = far
+	fFar := BiggsEXP6(probe)
+	probe[i] = xi
+	slope, second = biggsEXP6CGCentralParabola(fx, a, fNear, b, fFar)
+	return slope, second, biggsEXP6CGCentralLarger(biggsEXP6CGCentralMagnitude(fNear), biggsEXP6CGCentralMagnitude(fFar))
+}
+
+// biggsEXP6CGCentralParabola returns the first and second derivatives at 0 of the parabola
+// through (0, f0), (a, fa) and (b, fb), for probes on one side of a bound.
+// With b = 2a they are the three-point endpoint formulas
+// f′ ≈ (−3f0 + 4fa − fb)/(2a), error a²|f‴|/3, and
+// f″ ≈ (f0 − 2fa + fb)/a² (Burden & Faires, Numerical Analysis, §4.1
+// and §4.1's second-derivative formulas, from memory); written for unequal
+// a and b, so that the representable steps can be used.
+func biggsEXP6CGCentralParabola(f0, a, fa, b, fb float64) (slope, second float64) {
+	slope = -(a+b)/(a*b)*f0 + b/(a*(b-a))*fa - a/(b*(b-a))*fb
+	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
+	return slope, second
 }
 
 // biggsEXP6CGCentralDirection is nonlinear conjugate gradients with the Polak–Ribière
@@ -650,13 +765,13 @@ func biggsEXP6CGCentralConfirmGradient(x *[6]float64, fx float64, g, e *[6]float
 		wide.ratio[i] *= 2
 	}
 	var doubled [6]float64
-	biggsEXP6CGCentralDerivative(x, fx, g, diffs)
-	biggsEXP6CGCentralDerivative(x, fx, &doubled, &wide)
+	calls += biggsEXP6CGCentralDerivative(x, fx, g, diffs)
+	calls += biggsEXP6CGCentralDerivative(x, fx, &doubled, &wide)
 	biggsEXP6CGCentralGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * biggsEXP6CGCentralAbs(g[i]-doubled[i])
 	}
-	return calls + 2*biggsEXP6CGCentralDerivativeCost, true
+	return calls, true
 }
 
 // biggsEXP6CGCentralGradientError bounds each central difference's error by twice its
@@ -666,8 +781,16 @@ func biggsEXP6CGCentralConfirmGradient(x *[6]float64, fx float64, g, e *[6]float
 func biggsEXP6CGCentralGradientError(x *[6]float64, fx float64, g, e *[6]float64, diffs *biggsEXP6CGCentralDifferences) {
 	noise := biggsEXP6CGCentralNoiseLevel(x, fx, g)
 	for i := range e {
-		h := diffs.ratio[i] * biggsEXP6CGCentralLarger(1, biggsEXP6CGCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		h, oneSided := biggsEXP6CGCentralCentralInterval(x, i, diffs)
+		h = biggsEXP6CGCentralAbs(h)
+		switch {
+		case h == 0:
+			e[i] = 0 // fixed by equal bounds
+		case oneSided:
+			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+		default:
+			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		}
 	}
 }
 
@@ -689,6 +812,11 @@ func biggsEXP6CGCentralRoundingFloor(x, g, e *[6]float64, diffs *biggsEXP6CGCent
 // calibration, which biggsEXP6CGCentralConfirmGradient has just made at x.
 func biggsEXP6CGCentralDiagonalCurvature(x, g *[6]float64, diffs *biggsEXP6CGCentralDifferences, h *[6]float64) {
 	*h = diffs.second
+}
+
+// biggsEXP6CGCentralStationarity measures the gradient itself.
+func biggsEXP6CGCentralStationarity(g, e, x *[6]float64, fx float64, b *biggsEXP6CGCentralBox) (measure, floor float64) {
+	return biggsEXP6CGCentralGradientMeasure(g, e, x, fx)
 }
 
 // biggsEXP6CGCentralGradientMeasure is the scale-free measure
@@ -724,6 +852,14 @@ func biggsEXP6CGCentralStepWithin(s, x *[6]float64, tol float64) bool {
 	return true
 }
 
+// biggsEXP6CGCentralCurvaturePair: without bounds the pair is used as it is.
+func biggsEXP6CGCentralCurvaturePair(s, y, x *[6]float64, b *biggsEXP6CGCentralBox) {}
+
+// biggsEXP6CGCentralSearchDirection is the direction's own.
+func biggsEXP6CGCentralSearchDirection(dir *biggsEXP6CGCentralDirection, x, g, d *[6]float64, b *biggsEXP6CGCentralBox) {
+	dir.compute(g, d)
+}
+
 // biggsEXP6CGCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func biggsEXP6CGCentralTinyStep(x, d *[6]float64, tol float64) float64 {
@@ -751,7 +887,10 @@ func biggsEXP6CGCentralTinyStep(x, d *[6]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (biggsEXP6CGCentralStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -760,13 +899,17 @@ func biggsEXP6CGCentralTinyStep(x, d *[6]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func biggsEXP6CGCentralLineSearch(x *[6]float64, fx float64, d *[6]float64, slope, first, tiny float64, budget int, xt, gt *[6]float64, diffs *biggsEXP6CGCentralDifferences) biggsEXP6CGCentralLineResult {
+func biggsEXP6CGCentralLineSearch(x *[6]float64, fx float64, g, d *[6]float64, slope, first, tiny float64, budget int, xt, gt *[6]float64, diffs *biggsEXP6CGCentralDifferences) biggsEXP6CGCentralLineResult {
 	low := biggsEXP6CGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high biggsEXP6CGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [6]float64                                                  // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend biggsEXP6CGCentralRiseTrend // of the trials failing sufficient decrease
+	var trend biggsEXP6CGCentralRiseTrend                         // of the trials failing sufficient decrease
+	limit := biggsEXP6CGCentralStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < biggsEXP6CGCentralStepTrials; trial++ {
 		if bracketed && biggsEXP6CGCentralAbs(high.step-low.step) <= tiny {
@@ -776,12 +919,12 @@ func biggsEXP6CGCentralLineSearch(x *[6]float64, fx float64, d *[6]float64, slop
 			if low.step == 0 {
 				return biggsEXP6CGCentralLineResult{calls: calls, rising: trend.contradicts(), end: biggsEXP6CGCentralTinyOrExhausted(biggsEXP6CGCentralFinite(high.value))}
 			}
-			return biggsEXP6CGCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return biggsEXP6CGCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return biggsEXP6CGCentralLineResult{calls: calls, end: biggsEXP6CGCentralSearchOutOfBudget}
 		}
-		biggsEXP6CGCentralMoveTo(xt, x, t, d)
+		biggsEXP6CGCentralTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := biggsEXP6CGCentralLinePoint{step: t, value: BiggsEXP6(xt)}
 		calls++
 		previous := low
@@ -792,8 +935,7 @@ func biggsEXP6CGCentralLineSearch(x *[6]float64, fx float64, d *[6]float64, slop
 			if calls+biggsEXP6CGCentralDerivativeCost > budget {
 				return biggsEXP6CGCentralLineResult{calls: calls, end: biggsEXP6CGCentralSearchOutOfBudget}
 			}
-			biggsEXP6CGCentralDerivative(xt, current.value, gt, diffs)
-			calls += biggsEXP6CGCentralDerivativeCost
+			calls += biggsEXP6CGCentralDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = biggsEXP6CGCentralDot(gt, d), true
 			switch {
 			case !biggsEXP6CGCentralFinite(current.slope):
@@ -804,18 +946,22 @@ func biggsEXP6CGCentralLineSearch(x *[6]float64, fx float64, d *[6]float64, slop
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return biggsEXP6CGCentralLineResult{step: t, value: current.value, calls: calls, gradient: true, end: biggsEXP6CGCentralSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = biggsEXP6CGCentralZoomTrial(&low, &high)
-		} else {
-			t = biggsEXP6CGCentralExpandTrial(&previous, &current)
+		} else if t = biggsEXP6CGCentralExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return biggsEXP6CGCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return biggsEXP6CGCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return biggsEXP6CGCentralLineResult{calls: calls, rising: trend.contradicts(), end: biggsEXP6CGCentralSearchExhausted}
 }
@@ -902,6 +1048,11 @@ func biggsEXP6CGCentralFaithfulStep(x, xt, d *[6]float64, t float64) bool {
 	return true
 }
 
+// biggsEXP6CGCentralStepCap: without bounds a step may be as long as the search wants.
+func biggsEXP6CGCentralStepCap(x, d *[6]float64, tiny float64, b *biggsEXP6CGCentralBox) float64 {
+	return math.Inf(1)
+}
+
 // biggsEXP6CGCentralTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -926,10 +1077,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func biggsEXP6CGCentralAcceptLow(x, d *[6]float64, low *biggsEXP6CGCentralLinePoint, lowGradient *[6]float64, calls int, xt, gt *[6]float64) biggsEXP6CGCentralLineResult {
-	biggsEXP6CGCentralMoveTo(xt, x, low.step, d)
+func biggsEXP6CGCentralAcceptLow(x, d *[6]float64, low *biggsEXP6CGCentralLinePoint, lowGradient *[6]float64, calls int, xt, gt *[6]float64, diffs *biggsEXP6CGCentralDifferences) biggsEXP6CGCentralLineResult {
+	biggsEXP6CGCentralTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return biggsEXP6CGCentralLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: biggsEXP6CGCentralSearchAccepted}
+}
+
+// biggsEXP6CGCentralTrialPoint is x + t·d.
+func biggsEXP6CGCentralTrialPoint(out, x *[6]float64, t float64, d *[6]float64, b *biggsEXP6CGCentralBox) {
+	biggsEXP6CGCentralMoveTo(out, x, t, d)
 }
 
 // biggsEXP6CGCentralMoveTo sets out = x + t·d.

@@ -88,6 +88,9 @@ func BiggsEXP6LBFGSAnalyticDefaultLimits() BiggsEXP6LBFGSAnalyticLimits {
 	}
 }
 
+// biggsEXP6LBFGSAnalyticBox is empty: mgh.toml sets no bounds on BiggsEXP6LBFGSAnalytic.
+type biggsEXP6LBFGSAnalyticBox struct{}
+
 // BiggsEXP6LBFGSAnalytic minimizes BiggsEXP6 from x0, as mgh.toml specifies.
 //
 // Direction lbfgs: limited-memory BFGS: the last `memory` pairs, two-loop recursion (2·memory·dim numbers).
@@ -105,7 +108,7 @@ func BiggsEXP6LBFGSAnalytic(x0 [6]float64) BiggsEXP6LBFGSAnalyticResult {
 
 // BiggsEXP6LBFGSAnalyticWithLimits is BiggsEXP6LBFGSAnalytic with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func BiggsEXP6LBFGSAnalyticWithLimits(x0 [6]float64, limits BiggsEXP6LBFGSAnalyticLimits) BiggsEXP6LBFGSAnalyticResult {
-	out := biggsEXP6LBFGSAnalyticMinimize(x0, limits)
+	out := biggsEXP6LBFGSAnalyticMinimize(x0, limits, biggsEXP6LBFGSAnalyticBox{})
 	return BiggsEXP6LBFGSAnalyticResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -159,27 +162,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func biggsEXP6LBFGSAnalyticMinimize(x0 [6]float64, lim BiggsEXP6LBFGSAnalyticLimits) biggsEXP6LBFGSAnalyticOutcome {
-	out := biggsEXP6LBFGSAnalyticOutcome{x: x0, status: BiggsEXP6LBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
+func biggsEXP6LBFGSAnalyticMinimize(x0 [6]float64, lim BiggsEXP6LBFGSAnalyticLimits, bounds biggsEXP6LBFGSAnalyticBox) biggsEXP6LBFGSAnalyticOutcome {
+	x := x0
+	biggsEXP6LBFGSAnalyticEnterBox(&x, &bounds)
+	out := biggsEXP6LBFGSAnalyticOutcome{x: x, status: BiggsEXP6LBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := BiggsEXP6(&x)
 	out.f, out.evaluations = fx, 1
 	if !biggsEXP6LBFGSAnalyticFinite(fx) || !biggsEXP6LBFGSAnalyticFiniteVec(&x) {
 		out.status = BiggsEXP6LBFGSAnalyticNonFiniteStart
 		return out
 	}
-	var diffs biggsEXP6LBFGSAnalyticDifferences
+	diffs := biggsEXP6LBFGSAnalyticDifferences{bounds: bounds}
 	calls, ok := biggsEXP6LBFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+biggsEXP6LBFGSAnalyticDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [6]float64
-	biggsEXP6LBFGSAnalyticDerivative(&x, fx, &g, &diffs)
-	out.evaluations += biggsEXP6LBFGSAnalyticDerivativeCost
+	out.evaluations += biggsEXP6LBFGSAnalyticDerivative(&x, fx, &g, &diffs)
 
 	if !biggsEXP6LBFGSAnalyticFiniteVec(&g) {
 		out.status = BiggsEXP6LBFGSAnalyticNonFiniteGradient
@@ -212,7 +215,7 @@ func biggsEXP6LBFGSAnalyticMinimize(x0 [6]float64, lim BiggsEXP6LBFGSAnalyticLim
 		case !confirmed:
 			biggsEXP6LBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := biggsEXP6LBFGSAnalyticGradientMeasure(&g, &e, &x, fx)
+		measure, floor := biggsEXP6LBFGSAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, biggsEXP6LBFGSAnalyticLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -251,16 +254,17 @@ func biggsEXP6LBFGSAnalyticMinimize(x0 [6]float64, lim BiggsEXP6LBFGSAnalyticLim
 			if rises >= 8 {
 				return best.ending(BiggsEXP6LBFGSAnalyticDiverged, out.iterations, out.evaluations)
 			}
+			biggsEXP6LBFGSAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(BiggsEXP6LBFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		biggsEXP6LBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := biggsEXP6LBFGSAnalyticDot(&g, &d)
 		if !(now < 0) || !biggsEXP6LBFGSAnalyticFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			biggsEXP6LBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = biggsEXP6LBFGSAnalyticDot(&g, &d)
 		}
 		first := float64(biggsEXP6LBFGSAnalyticStepInitial)
@@ -268,7 +272,7 @@ func biggsEXP6LBFGSAnalyticMinimize(x0 [6]float64, lim BiggsEXP6LBFGSAnalyticLim
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := biggsEXP6LBFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := biggsEXP6LBFGSAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := biggsEXP6LBFGSAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case biggsEXP6LBFGSAnalyticSearchOutOfBudget:
@@ -304,8 +308,7 @@ func biggsEXP6LBFGSAnalyticMinimize(x0 [6]float64, lim BiggsEXP6LBFGSAnalyticLim
 				}
 				return best.ending(BiggsEXP6LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			biggsEXP6LBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += biggsEXP6LBFGSAnalyticDerivativeCost
+			out.evaluations += biggsEXP6LBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		biggsEXP6LBFGSAnalyticDifference(&s, &xt, &x)
@@ -346,6 +349,9 @@ func (o biggsEXP6LBFGSAnalyticOutcome) ending(end BiggsEXP6LBFGSAnalyticStatus, 
 	return o
 }
 
+// biggsEXP6LBFGSAnalyticEnterBox: without bounds every start is inside.
+func biggsEXP6LBFGSAnalyticEnterBox(x *[6]float64, b *biggsEXP6LBFGSAnalyticBox) {}
+
 // biggsEXP6LBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -368,15 +374,17 @@ func biggsEXP6LBFGSAnalyticFiniteVec(x *[6]float64) bool {
 	return true
 }
 
-// biggsEXP6LBFGSAnalyticDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// biggsEXP6LBFGSAnalyticDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type biggsEXP6LBFGSAnalyticDifferences struct {
 	ratio     [6]float64
 	curvature [6]float64
 	second    [6]float64 // |f″| along e_i, for the rounding floor of a stall (see biggsEXP6LBFGSAnalyticRoundingFloor)
+	bounds    biggsEXP6LBFGSAnalyticBox
 }
 
 // biggsEXP6LBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
@@ -385,8 +393,9 @@ func biggsEXP6LBFGSAnalyticCalibrate(x *[6]float64, fx float64, diffs *biggsEXP6
 }
 
 // biggsEXP6LBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func biggsEXP6LBFGSAnalyticDerivative(x *[6]float64, fx float64, g *[6]float64, diffs *biggsEXP6LBFGSAnalyticDifferences) {
+func biggsEXP6LBFGSAnalyticDerivative(x *[6]float64, fx float64, g *[6]float64, diffs *biggsEXP6LBFGSAnalyticDifferences) int {
 	BiggsEXP6Grad(x, g)
+	return 0
 }
 
 // biggsEXP6LBFGSAnalyticDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
@@ -551,13 +560,13 @@ func biggsEXP6LBFGSAnalyticConfirmGradient(x *[6]float64, fx float64, g, e *[6]f
 		wide.ratio[i] *= 2
 	}
 	var doubled [6]float64
-	biggsEXP6LBFGSAnalyticDerivative(x, fx, g, diffs)
-	biggsEXP6LBFGSAnalyticDerivative(x, fx, &doubled, &wide)
+	calls += biggsEXP6LBFGSAnalyticDerivative(x, fx, g, diffs)
+	calls += biggsEXP6LBFGSAnalyticDerivative(x, fx, &doubled, &wide)
 	biggsEXP6LBFGSAnalyticGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * biggsEXP6LBFGSAnalyticAbs(g[i]-doubled[i])
 	}
-	return calls + 2*biggsEXP6LBFGSAnalyticDerivativeCost, true
+	return calls, true
 }
 
 // biggsEXP6LBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
@@ -599,18 +608,60 @@ func biggsEXP6LBFGSAnalyticDiagonalCurvature(x, g *[6]float64, diffs *biggsEXP6L
 	var moved [6]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := biggsEXP6LBFGSAnalyticProbeStep(xi, biggsEXP6LBFGSAnalyticSquareRoot(biggsEXP6LBFGSAnalyticUnitRoundoff)*biggsEXP6LBFGSAnalyticLarger(1, biggsEXP6LBFGSAnalyticAbs(xi)))
-		probe[i] = up
-		BiggsEXP6Grad(&probe, &moved)
-		h[i] = biggsEXP6LBFGSAnalyticAbs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := biggsEXP6LBFGSAnalyticCoordinateRange(i, diffs)
+		up, delta := biggsEXP6LBFGSAnalyticProbeStep(xi, biggsEXP6LBFGSAnalyticOneSide(xi, biggsEXP6LBFGSAnalyticSquareRoot(biggsEXP6LBFGSAnalyticUnitRoundoff)*biggsEXP6LBFGSAnalyticLarger(1, biggsEXP6LBFGSAnalyticAbs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			BiggsEXP6Grad(&probe, &moved)
+			h[i] = biggsEXP6LBFGSAnalyticAbs(moved[i]-g[i]) / biggsEXP6LBFGSAnalyticAbs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// biggsEXP6LBFGSAnalyticProbeStep returns x_i moved by h, and the step actually representable.
-func biggsEXP6LBFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// biggsEXP6LBFGSAnalyticCoordinateRange: without bounds any probe is allowed.
+func biggsEXP6LBFGSAnalyticCoordinateRange(i int, diffs *biggsEXP6LBFGSAnalyticDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// biggsEXP6LBFGSAnalyticProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func biggsEXP6LBFGSAnalyticProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := biggsEXP6LBFGSAnalyticClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// biggsEXP6LBFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func biggsEXP6LBFGSAnalyticClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// biggsEXP6LBFGSAnalyticOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func biggsEXP6LBFGSAnalyticOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // biggsEXP6LBFGSAnalyticSquareRoot returns √v.
@@ -626,6 +677,11 @@ func biggsEXP6LBFGSAnalyticLarger(a, b float64) float64 {
 		return a
 	}
 	return b
+}
+
+// biggsEXP6LBFGSAnalyticStationarity measures the gradient itself.
+func biggsEXP6LBFGSAnalyticStationarity(g, e, x *[6]float64, fx float64, b *biggsEXP6LBFGSAnalyticBox) (measure, floor float64) {
+	return biggsEXP6LBFGSAnalyticGradientMeasure(g, e, x, fx)
 }
 
 // biggsEXP6LBFGSAnalyticGradientMeasure is the scale-free measure
@@ -661,6 +717,14 @@ func biggsEXP6LBFGSAnalyticStepWithin(s, x *[6]float64, tol float64) bool {
 	return true
 }
 
+// biggsEXP6LBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
+func biggsEXP6LBFGSAnalyticCurvaturePair(s, y, x *[6]float64, b *biggsEXP6LBFGSAnalyticBox) {}
+
+// biggsEXP6LBFGSAnalyticSearchDirection is the direction's own.
+func biggsEXP6LBFGSAnalyticSearchDirection(dir *biggsEXP6LBFGSAnalyticDirection, x, g, d *[6]float64, b *biggsEXP6LBFGSAnalyticBox) {
+	dir.compute(g, d)
+}
+
 // biggsEXP6LBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func biggsEXP6LBFGSAnalyticTinyStep(x, d *[6]float64, tol float64) float64 {
@@ -688,7 +752,10 @@ func biggsEXP6LBFGSAnalyticTinyStep(x, d *[6]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (biggsEXP6LBFGSAnalyticStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -697,13 +764,17 @@ func biggsEXP6LBFGSAnalyticTinyStep(x, d *[6]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func biggsEXP6LBFGSAnalyticLineSearch(x *[6]float64, fx float64, d *[6]float64, slope, first, tiny float64, budget int, xt, gt *[6]float64, diffs *biggsEXP6LBFGSAnalyticDifferences) biggsEXP6LBFGSAnalyticLineResult {
+func biggsEXP6LBFGSAnalyticLineSearch(x *[6]float64, fx float64, g, d *[6]float64, slope, first, tiny float64, budget int, xt, gt *[6]float64, diffs *biggsEXP6LBFGSAnalyticDifferences) biggsEXP6LBFGSAnalyticLineResult {
 	low := biggsEXP6LBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high biggsEXP6LBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [6]float64                                                      // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend biggsEXP6LBFGSAnalyticRiseTrend // of the trials failing sufficient decrease
+	var trend biggsEXP6LBFGSAnalyticRiseTrend                         // of the trials failing sufficient decrease
+	limit := biggsEXP6LBFGSAnalyticStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < biggsEXP6LBFGSAnalyticStepTrials; trial++ {
 		if bracketed && biggsEXP6LBFGSAnalyticAbs(high.step-low.step) <= tiny {
@@ -713,12 +784,12 @@ func biggsEXP6LBFGSAnalyticLineSearch(x *[6]float64, fx float64, d *[6]float64, 
 			if low.step == 0 {
 				return biggsEXP6LBFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: biggsEXP6LBFGSAnalyticTinyOrExhausted(biggsEXP6LBFGSAnalyticFinite(high.value))}
 			}
-			return biggsEXP6LBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return biggsEXP6LBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return biggsEXP6LBFGSAnalyticLineResult{calls: calls, end: biggsEXP6LBFGSAnalyticSearchOutOfBudget}
 		}
-		biggsEXP6LBFGSAnalyticMoveTo(xt, x, t, d)
+		biggsEXP6LBFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := biggsEXP6LBFGSAnalyticLinePoint{step: t, value: BiggsEXP6(xt)}
 		calls++
 		previous := low
@@ -729,8 +800,7 @@ func biggsEXP6LBFGSAnalyticLineSearch(x *[6]float64, fx float64, d *[6]float64, 
 			if calls+biggsEXP6LBFGSAnalyticDerivativeCost > budget {
 				return biggsEXP6LBFGSAnalyticLineResult{calls: calls, end: biggsEXP6LBFGSAnalyticSearchOutOfBudget}
 			}
-			biggsEXP6LBFGSAnalyticDerivative(xt, current.value, gt, diffs)
-			calls += biggsEXP6LBFGSAnalyticDerivativeCost
+			calls += biggsEXP6LBFGSAnalyticDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = biggsEXP6LBFGSAnalyticDot(gt, d), true
 			switch {
 			case !biggsEXP6LBFGSAnalyticFinite(current.slope):
@@ -741,18 +811,22 @@ func biggsEXP6LBFGSAnalyticLineSearch(x *[6]float64, fx float64, d *[6]float64, 
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return biggsEXP6LBFGSAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: biggsEXP6LBFGSAnalyticSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = biggsEXP6LBFGSAnalyticZoomTrial(&low, &high)
-		} else {
-			t = biggsEXP6LBFGSAnalyticExpandTrial(&previous, &current)
+		} else if t = biggsEXP6LBFGSAnalyticExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return biggsEXP6LBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return biggsEXP6LBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return biggsEXP6LBFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: biggsEXP6LBFGSAnalyticSearchExhausted}
 }
@@ -839,6 +913,11 @@ func biggsEXP6LBFGSAnalyticFaithfulStep(x, xt, d *[6]float64, t float64) bool {
 	return true
 }
 
+// biggsEXP6LBFGSAnalyticStepCap: without bounds a step may be as long as the search wants.
+func biggsEXP6LBFGSAnalyticStepCap(x, d *[6]float64, tiny float64, b *biggsEXP6LBFGSAnalyticBox) float64 {
+	return math.Inf(1)
+}
+
 // biggsEXP6LBFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -863,10 +942,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func biggsEXP6LBFGSAnalyticAcceptLow(x, d *[6]float64, low *biggsEXP6LBFGSAnalyticLinePoint, lowGradient *[6]float64, calls int, xt, gt *[6]float64) biggsEXP6LBFGSAnalyticLineResult {
-	biggsEXP6LBFGSAnalyticMoveTo(xt, x, low.step, d)
+func biggsEXP6LBFGSAnalyticAcceptLow(x, d *[6]float64, low *biggsEXP6LBFGSAnalyticLinePoint, lowGradient *[6]float64, calls int, xt, gt *[6]float64, diffs *biggsEXP6LBFGSAnalyticDifferences) biggsEXP6LBFGSAnalyticLineResult {
+	biggsEXP6LBFGSAnalyticTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return biggsEXP6LBFGSAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: biggsEXP6LBFGSAnalyticSearchAccepted}
+}
+
+// biggsEXP6LBFGSAnalyticTrialPoint is x + t·d.
+func biggsEXP6LBFGSAnalyticTrialPoint(out, x *[6]float64, t float64, d *[6]float64, b *biggsEXP6LBFGSAnalyticBox) {
+	biggsEXP6LBFGSAnalyticMoveTo(out, x, t, d)
 }
 
 // biggsEXP6LBFGSAnalyticMoveTo sets out = x + t·d.
@@ -921,21 +1005,6 @@ func biggsEXP6LBFGSAnalyticModelMinimizer(a, b *biggsEXP6LBFGSAnalyticLinePoint)
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, biggsEXP6LBFGSAnalyticFinite(t)
-}
-
-// biggsEXP6LBFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func biggsEXP6LBFGSAnalyticClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // biggsEXP6LBFGSAnalyticExpandTrial picks a larger trial after current met sufficient decrease

@@ -88,6 +88,9 @@ func BiggsEXP6LBFGSCentralDefaultLimits() BiggsEXP6LBFGSCentralLimits {
 	}
 }
 
+// biggsEXP6LBFGSCentralBox is empty: mgh.toml sets no bounds on BiggsEXP6LBFGSCentral.
+type biggsEXP6LBFGSCentralBox struct{}
+
 // BiggsEXP6LBFGSCentral minimizes BiggsEXP6 from x0, as mgh.toml specifies.
 //
 // Direction lbfgs: limited-memory BFGS: the last `memory` pairs, two-loop recursion (2·memory·dim numbers).
@@ -105,7 +108,7 @@ func BiggsEXP6LBFGSCentral(x0 [6]float64) BiggsEXP6LBFGSCentralResult {
 
 // BiggsEXP6LBFGSCentralWithLimits is BiggsEXP6LBFGSCentral with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func BiggsEXP6LBFGSCentralWithLimits(x0 [6]float64, limits BiggsEXP6LBFGSCentralLimits) BiggsEXP6LBFGSCentralResult {
-	out := biggsEXP6LBFGSCentralMinimize(x0, limits)
+	out := biggsEXP6LBFGSCentralMinimize(x0, limits, biggsEXP6LBFGSCentralBox{})
 	return BiggsEXP6LBFGSCentralResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -159,27 +162,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func biggsEXP6LBFGSCentralMinimize(x0 [6]float64, lim BiggsEXP6LBFGSCentralLimits) biggsEXP6LBFGSCentralOutcome {
-	out := biggsEXP6LBFGSCentralOutcome{x: x0, status: BiggsEXP6LBFGSCentralOutOfEvaluations, gradient: math.NaN()}
+func biggsEXP6LBFGSCentralMinimize(x0 [6]float64, lim BiggsEXP6LBFGSCentralLimits, bounds biggsEXP6LBFGSCentralBox) biggsEXP6LBFGSCentralOutcome {
+	x := x0
+	biggsEXP6LBFGSCentralEnterBox(&x, &bounds)
+	out := biggsEXP6LBFGSCentralOutcome{x: x, status: BiggsEXP6LBFGSCentralOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := BiggsEXP6(&x)
 	out.f, out.evaluations = fx, 1
 	if !biggsEXP6LBFGSCentralFinite(fx) || !biggsEXP6LBFGSCentralFiniteVec(&x) {
 		out.status = BiggsEXP6LBFGSCentralNonFiniteStart
 		return out
 	}
-	var diffs biggsEXP6LBFGSCentralDifferences
+	diffs := biggsEXP6LBFGSCentralDifferences{bounds: bounds}
 	calls, ok := biggsEXP6LBFGSCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+biggsEXP6LBFGSCentralDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [6]float64
-	biggsEXP6LBFGSCentralDerivative(&x, fx, &g, &diffs)
-	out.evaluations += biggsEXP6LBFGSCentralDerivativeCost
+	out.evaluations += biggsEXP6LBFGSCentralDerivative(&x, fx, &g, &diffs)
 
 	if !biggsEXP6LBFGSCentralFiniteVec(&g) {
 		out.status = BiggsEXP6LBFGSCentralNonFiniteGradient
@@ -212,7 +215,7 @@ func biggsEXP6LBFGSCentralMinimize(x0 [6]float64, lim BiggsEXP6LBFGSCentralLimit
 		case !confirmed:
 			biggsEXP6LBFGSCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := biggsEXP6LBFGSCentralGradientMeasure(&g, &e, &x, fx)
+		measure, floor := biggsEXP6LBFGSCentralStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, biggsEXP6LBFGSCentralLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -251,16 +254,17 @@ func biggsEXP6LBFGSCentralMinimize(x0 [6]float64, lim BiggsEXP6LBFGSCentralLimit
 			if rises >= 8 {
 				return best.ending(BiggsEXP6LBFGSCentralDiverged, out.iterations, out.evaluations)
 			}
+			biggsEXP6LBFGSCentralCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(BiggsEXP6LBFGSCentralOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		biggsEXP6LBFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := biggsEXP6LBFGSCentralDot(&g, &d)
 		if !(now < 0) || !biggsEXP6LBFGSCentralFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			biggsEXP6LBFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = biggsEXP6LBFGSCentralDot(&g, &d)
 		}
 		first := float64(biggsEXP6LBFGSCentralStepInitial)
@@ -268,7 +272,7 @@ func biggsEXP6LBFGSCentralMinimize(x0 [6]float64, lim BiggsEXP6LBFGSCentralLimit
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := biggsEXP6LBFGSCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := biggsEXP6LBFGSCentralLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := biggsEXP6LBFGSCentralLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case biggsEXP6LBFGSCentralSearchOutOfBudget:
@@ -304,8 +308,7 @@ func biggsEXP6LBFGSCentralMinimize(x0 [6]float64, lim BiggsEXP6LBFGSCentralLimit
 				}
 				return best.ending(BiggsEXP6LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			biggsEXP6LBFGSCentralDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += biggsEXP6LBFGSCentralDerivativeCost
+			out.evaluations += biggsEXP6LBFGSCentralDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		biggsEXP6LBFGSCentralDifference(&s, &xt, &x)
@@ -346,6 +349,9 @@ func (o biggsEXP6LBFGSCentralOutcome) ending(end BiggsEXP6LBFGSCentralStatus, it
 	return o
 }
 
+// biggsEXP6LBFGSCentralEnterBox: without bounds every start is inside.
+func biggsEXP6LBFGSCentralEnterBox(x *[6]float64, b *biggsEXP6LBFGSCentralBox) {}
+
 // biggsEXP6LBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -368,15 +374,17 @@ func biggsEXP6LBFGSCentralFiniteVec(x *[6]float64) bool {
 	return true
 }
 
-// biggsEXP6LBFGSCentralDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// biggsEXP6LBFGSCentralDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type biggsEXP6LBFGSCentralDifferences struct {
 	ratio     [6]float64
 	curvature [6]float64
 	second    [6]float64 // |f″| along e_i, for the rounding floor of a stall (see biggsEXP6LBFGSCentralRoundingFloor)
+	bounds    biggsEXP6LBFGSCentralBox
 }
 
 // biggsEXP6LBFGSCentralCalibrate chooses each central-difference interval from the
@@ -398,19 +406,45 @@ func biggsEXP6LBFGSCentralCalibrate(x *[6]float64, fx float64, diffs *biggsEXP6L
 	var slope [6]float64
 	scale := biggsEXP6LBFGSCentralAbs(fx)
 	quarter := biggsEXP6LBFGSCentralSquareRoot(biggsEXP6LBFGSCentralSquareRoot(biggsEXP6LBFGSCentralUnitRoundoff)) // u^(1/4)
+	calls := 0
 	for i := range probe {
-		if 4*(i+1) > budget {
-			return 4 * i, false
+		if calls+4 > budget {
+			return calls, false
 		}
 		xi := probe[i]
 		bar := quarter * biggsEXP6LBFGSCentralLarger(1, biggsEXP6LBFGSCentralAbs(xi))
+		lower, upper := biggsEXP6LBFGSCentralCoordinateRange(i, diffs)
+		if xi+2*bar > upper || xi-2*bar < lower {
+			// At a bound: three probes on the side with room, at h, 2h
+			// and 3h, for f‴ ≈ (f(3h) − 3f(2h) + 3f(h) − f(0))/h³ (the
+			// third forward difference).
+			h := biggsEXP6LBFGSCentralOneSide(xi, bar, 3, lower, upper)
+			if h == 0 {
+				continue // fixed by equal bounds
+			}
+			var f [3]float64
+			for k := range f {
+				probe[i], _ = biggsEXP6LBFGSCentralProbeStep(xi, float64(k+1)*h, lower, upper)
+				f[k] = BiggsEXP6(&probe)
+				scale = biggsEXP6LBFGSCentralLarger(scale, biggsEXP6LBFGSCentralMagnitude(f[k]))
+			}
+			probe[i] = xi
+			calls += 3
+			if biggsEXP6LBFGSCentralFinite(f[0]) && biggsEXP6LBFGSCentralFinite(f[1]) && biggsEXP6LBFGSCentralFinite(f[2]) {
+				diffs.curvature[i] = biggsEXP6LBFGSCentralAbs(f[2]-3*f[1]+3*f[0]-fx) / biggsEXP6LBFGSCentralAbs(h*h*h)
+				diffs.second[i] = biggsEXP6LBFGSCentralAbs(fx-2*f[0]+f[1]) / (h * h)
+				slope[i] = (-3*fx + 4*f[0] - f[1]) / (2 * h)
+			}
+			continue
+		}
 		var f [4]float64
 		for k, m := range [4]float64{2, 1, -1, -2} {
-			probe[i], _ = biggsEXP6LBFGSCentralProbeStep(xi, m*bar)
+			probe[i], _ = biggsEXP6LBFGSCentralProbeStep(xi, m*bar, lower, upper)
 			f[k] = BiggsEXP6(&probe)
 			scale = biggsEXP6LBFGSCentralLarger(scale, biggsEXP6LBFGSCentralMagnitude(f[k]))
 		}
 		probe[i] = xi
+		calls += 4
 		if biggsEXP6LBFGSCentralFinite(f[0]) && biggsEXP6LBFGSCentralFinite(f[1]) && biggsEXP6LBFGSCentralFinite(f[2]) && biggsEXP6LBFGSCentralFinite(f[3]) {
 			diffs.curvature[i] = biggsEXP6LBFGSCentralAbs(f[0]-2*f[1]+2*f[2]-f[3]) / (2 * bar * bar * bar)
 			diffs.second[i] = biggsEXP6LBFGSCentralAbs(f[1]-2*fx+f[2]) / (bar * bar)
@@ -429,7 +463,7 @@ func biggsEXP6LBFGSCentralCalibrate(x *[6]float64, fx float64, diffs *biggsEXP6L
 		diffs.ratio[i] = biggsEXP6LBFGSCentralClampBetween(h, 64*biggsEXP6LBFGSCentralUnitRoundoff*s, bar) / s
 		diffs.curvature[i] = third
 	}
-	return 4 * len(probe), true
+	return calls, true
 }
 
 // biggsEXP6LBFGSCentralAbs returns |v|.
@@ -455,10 +489,48 @@ func biggsEXP6LBFGSCentralLarger(a, b float64) float64 {
 	return b
 }
 
-// biggsEXP6LBFGSCentralProbeStep returns x_i moved by h, and the step actually representable.
-func biggsEXP6LBFGSCentralProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// biggsEXP6LBFGSCentralCoordinateRange: without bounds any probe is allowed.
+func biggsEXP6LBFGSCentralCoordinateRange(i int, diffs *biggsEXP6LBFGSCentralDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// biggsEXP6LBFGSCentralOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func biggsEXP6LBFGSCentralOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
+}
+
+// biggsEXP6LBFGSCentralProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func biggsEXP6LBFGSCentralProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := biggsEXP6LBFGSCentralClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// biggsEXP6LBFGSCentralClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func biggsEXP6LBFGSCentralClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
 }
 
 // biggsEXP6LBFGSCentralMagnitude is |v| for a finite v and 0 otherwise: a probe that fell
@@ -494,42 +566,85 @@ func biggsEXP6LBFGSCentralCubeRoot(v float64) float64 {
 	return math.Cbrt(v)
 }
 
-// biggsEXP6LBFGSCentralClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func biggsEXP6LBFGSCentralClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
-}
-
 // biggsEXP6LBFGSCentralDerivative approximates the gradient by central differences,
 //
 //	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),
 //
 // with the intervals biggsEXP6LBFGSCentralCalibrate chose, h_i = ratio_i·max(1, |x_i|)
-// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls; fx is
-// not needed.
-func biggsEXP6LBFGSCentralDerivative(x *[6]float64, fx float64, g *[6]float64, diffs *biggsEXP6LBFGSCentralDifferences) {
+// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls. Where
+// a bound leaves no room on one side, the three-point endpoint formula on
+// the other side takes its place at the same cost (see parabola); a
+// variable fixed by equal bounds costs nothing and gets 0.
+func biggsEXP6LBFGSCentralDerivative(x *[6]float64, fx float64, g *[6]float64, diffs *biggsEXP6LBFGSCentralDifferences) int {
 	probe := *x
+	calls := 0
 	for i := range probe {
 		xi := probe[i]
-		h := diffs.ratio[i] * biggsEXP6LBFGSCentralLarger(1, biggsEXP6LBFGSCentralAbs(xi))
-		up, _ := biggsEXP6LBFGSCentralProbeStep(xi, h)
-		down, _ := biggsEXP6LBFGSCentralProbeStep(xi, -h)
-		probe[i] = up
-		fUp := BiggsEXP6(&probe)
-		probe[i] = down
-		fDown := BiggsEXP6(&probe)
-		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
-		probe[i] = xi
+		h, oneSided := biggsEXP6LBFGSCentralCentralInterval(x, i, diffs)
+		lower, upper := biggsEXP6LBFGSCentralCoordinateRange(i, diffs)
+		switch {
+		case h == 0:
+			g[i] = 0 // fixed by equal bounds
+			continue
+		case oneSided:
+			g[i], _, _ = biggsEXP6LBFGSCentralSidedProbes(&probe, i, fx, h, lower, upper) // the three-point endpoint formula
+		default:
+			up, _ := biggsEXP6LBFGSCentralProbeStep(xi, h, lower, upper)
+			down, _ := biggsEXP6LBFGSCentralProbeStep(xi, -h, lower, upper)
+			probe[i] = up
+			fUp := BiggsEXP6(&probe)
+			probe[i] = down
+			fDown := BiggsEXP6(&probe)
+			g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+			probe[i] = xi
+		}
+		calls += 2
 	}
+	return calls
+}
+
+// biggsEXP6LBFGSCentralCentralInterval is the interval of coordinate i at x, ratio_i·max(1,
+// |x_i|), and whether the box leaves room for probes on both sides; when
+// it does not, the interval is signed towards the side with room for
+// probes at h and 2h, and shortened where the box is narrower than that
+// (see biggsEXP6LBFGSCentralOneSide).
+func biggsEXP6LBFGSCentralCentralInterval(x *[6]float64, i int, diffs *biggsEXP6LBFGSCentralDifferences) (h float64, oneSided bool) {
+	lower, upper := biggsEXP6LBFGSCentralCoordinateRange(i, diffs)
+	h = diffs.ratio[i] * biggsEXP6LBFGSCentralLarger(1, biggsEXP6LBFGSCentralAbs(x[i]))
+	if x[i]+h <= upper && x[i]-h >= lower {
+		return h, false
+	}
+	return biggsEXP6LBFGSCentralOneSide(x[i], h, 2, lower, upper), true
+}
+
+// biggsEXP6LBFGSCentralSidedProbes evaluates f at x moved along coordinate i by h and by 2h,
+// kept within [lower, upper], and returns the slope and second derivative
+// of the parabola through them and (x, fx) (see parabola), and the larger
+// magnitude of the two values.
+func biggsEXP6LBFGSCentralSidedProbes(probe *[6]float64, i int, fx, h, lower, upper float64) (slope, second, size float64) {
+	xi := probe[i]
+	near, a := biggsEXP6LBFGSCentralProbeStep(xi, h, lower, upper)
+	far, b := biggsEXP6LBFGSCentralProbeStep(xi, 2*h, lower, upper)
+	probe[i] = near
+	fNear := BiggsEXP6(probe)
+	probe[i] = far
+	fFar := BiggsEXP6(probe)
+	probe[i] = xi
+	slope, second = biggsEXP6LBFGSCentralParabola(fx, a, fNear, b, fFar)
+	return slope, second, biggsEXP6LBFGSCentralLarger(biggsEXP6LBFGSCentralMagnitude(fNear), biggsEXP6LBFGSCentralMagnitude(fFar))
+}
+
+// biggsEXP6LBFGSCentralParabola returns the first and second derivatives at 0 of the parabola
+// through (0, f0), (a, fa) and (b, fb), for probes on one side of a bound.
+// With b = 2a they are the three-point endpoint formulas
+// f′ ≈ (−3f0 + 4fa − fb)/(2a), error a²|f‴|/3, and
+// f″ ≈ (f0 − 2fa + fb)/a² (Burden & Faires, Numerical Analysis, §4.1
+// and §4.1's second-derivative formulas, from memory); written for unequal
+// a and b, so that the representable steps can be used.
+func biggsEXP6LBFGSCentralParabola(f0, a, fa, b, fb float64) (slope, second float64) {
+	slope = -(a+b)/(a*b)*f0 + b/(a*(b-a))*fa - a/(b*(b-a))*fb
+	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
+	return slope, second
 }
 
 // biggsEXP6LBFGSCentralDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
@@ -694,13 +809,13 @@ func biggsEXP6LBFGSCentralConfirmGradient(x *[6]float64, fx float64, g, e *[6]fl
 		wide.ratio[i] *= 2
 	}
 	var doubled [6]float64
-	biggsEXP6LBFGSCentralDerivative(x, fx, g, diffs)
-	biggsEXP6LBFGSCentralDerivative(x, fx, &doubled, &wide)
+	calls += biggsEXP6LBFGSCentralDerivative(x, fx, g, diffs)
+	calls += biggsEXP6LBFGSCentralDerivative(x, fx, &doubled, &wide)
 	biggsEXP6LBFGSCentralGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * biggsEXP6LBFGSCentralAbs(g[i]-doubled[i])
 	}
-	return calls + 2*biggsEXP6LBFGSCentralDerivativeCost, true
+	return calls, true
 }
 
 // biggsEXP6LBFGSCentralGradientError bounds each central difference's error by twice its
@@ -710,8 +825,16 @@ func biggsEXP6LBFGSCentralConfirmGradient(x *[6]float64, fx float64, g, e *[6]fl
 func biggsEXP6LBFGSCentralGradientError(x *[6]float64, fx float64, g, e *[6]float64, diffs *biggsEXP6LBFGSCentralDifferences) {
 	noise := biggsEXP6LBFGSCentralNoiseLevel(x, fx, g)
 	for i := range e {
-		h := diffs.ratio[i] * biggsEXP6LBFGSCentralLarger(1, biggsEXP6LBFGSCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		h, oneSided := biggsEXP6LBFGSCentralCentralInterval(x, i, diffs)
+		h = biggsEXP6LBFGSCentralAbs(h)
+		switch {
+		case h == 0:
+			e[i] = 0 // fixed by equal bounds
+		case oneSided:
+			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+		default:
+			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		}
 	}
 }
 
@@ -733,6 +856,11 @@ func biggsEXP6LBFGSCentralRoundingFloor(x, g, e *[6]float64, diffs *biggsEXP6LBF
 // calibration, which biggsEXP6LBFGSCentralConfirmGradient has just made at x.
 func biggsEXP6LBFGSCentralDiagonalCurvature(x, g *[6]float64, diffs *biggsEXP6LBFGSCentralDifferences, h *[6]float64) {
 	*h = diffs.second
+}
+
+// biggsEXP6LBFGSCentralStationarity measures the gradient itself.
+func biggsEXP6LBFGSCentralStationarity(g, e, x *[6]float64, fx float64, b *biggsEXP6LBFGSCentralBox) (measure, floor float64) {
+	return biggsEXP6LBFGSCentralGradientMeasure(g, e, x, fx)
 }
 
 // biggsEXP6LBFGSCentralGradientMeasure is the scale-free measure
@@ -768,6 +896,14 @@ func biggsEXP6LBFGSCentralStepWithin(s, x *[6]float64, tol float64) bool {
 	return true
 }
 
+// biggsEXP6LBFGSCentralCurvaturePair: without bounds the pair is used as it is.
+func biggsEXP6LBFGSCentralCurvaturePair(s, y, x *[6]float64, b *biggsEXP6LBFGSCentralBox) {}
+
+// biggsEXP6LBFGSCentralSearchDirection is the direction's own.
+func biggsEXP6LBFGSCentralSearchDirection(dir *biggsEXP6LBFGSCentralDirection, x, g, d *[6]float64, b *biggsEXP6LBFGSCentralBox) {
+	dir.compute(g, d)
+}
+
 // biggsEXP6LBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func biggsEXP6LBFGSCentralTinyStep(x, d *[6]float64, tol float64) float64 {
@@ -795,7 +931,10 @@ func biggsEXP6LBFGSCentralTinyStep(x, d *[6]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (biggsEXP6LBFGSCentralStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -804,13 +943,17 @@ func biggsEXP6LBFGSCentralTinyStep(x, d *[6]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func biggsEXP6LBFGSCentralLineSearch(x *[6]float64, fx float64, d *[6]float64, slope, first, tiny float64, budget int, xt, gt *[6]float64, diffs *biggsEXP6LBFGSCentralDifferences) biggsEXP6LBFGSCentralLineResult {
+func biggsEXP6LBFGSCentralLineSearch(x *[6]float64, fx float64, g, d *[6]float64, slope, first, tiny float64, budget int, xt, gt *[6]float64, diffs *biggsEXP6LBFGSCentralDifferences) biggsEXP6LBFGSCentralLineResult {
 	low := biggsEXP6LBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high biggsEXP6LBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [6]float64                                                     // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend biggsEXP6LBFGSCentralRiseTrend // of the trials failing sufficient decrease
+	var trend biggsEXP6LBFGSCentralRiseTrend                         // of the trials failing sufficient decrease
+	limit := biggsEXP6LBFGSCentralStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < biggsEXP6LBFGSCentralStepTrials; trial++ {
 		if bracketed && biggsEXP6LBFGSCentralAbs(high.step-low.step) <= tiny {
@@ -820,12 +963,12 @@ func biggsEXP6LBFGSCentralLineSearch(x *[6]float64, fx float64, d *[6]float64, s
 			if low.step == 0 {
 				return biggsEXP6LBFGSCentralLineResult{calls: calls, rising: trend.contradicts(), end: biggsEXP6LBFGSCentralTinyOrExhausted(biggsEXP6LBFGSCentralFinite(high.value))}
 			}
-			return biggsEXP6LBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return biggsEXP6LBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return biggsEXP6LBFGSCentralLineResult{calls: calls, end: biggsEXP6LBFGSCentralSearchOutOfBudget}
 		}
-		biggsEXP6LBFGSCentralMoveTo(xt, x, t, d)
+		biggsEXP6LBFGSCentralTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := biggsEXP6LBFGSCentralLinePoint{step: t, value: BiggsEXP6(xt)}
 		calls++
 		previous := low
@@ -836,8 +979,7 @@ func biggsEXP6LBFGSCentralLineSearch(x *[6]float64, fx float64, d *[6]float64, s
 			if calls+biggsEXP6LBFGSCentralDerivativeCost > budget {
 				return biggsEXP6LBFGSCentralLineResult{calls: calls, end: biggsEXP6LBFGSCentralSearchOutOfBudget}
 			}
-			biggsEXP6LBFGSCentralDerivative(xt, current.value, gt, diffs)
-			calls += biggsEXP6LBFGSCentralDerivativeCost
+			calls += biggsEXP6LBFGSCentralDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = biggsEXP6LBFGSCentralDot(gt, d), true
 			switch {
 			case !biggsEXP6LBFGSCentralFinite(current.slope):
@@ -848,18 +990,22 @@ func biggsEXP6LBFGSCentralLineSearch(x *[6]float64, fx float64, d *[6]float64, s
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return biggsEXP6LBFGSCentralLineResult{step: t, value: current.value, calls: calls, gradient: true, end: biggsEXP6LBFGSCentralSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = biggsEXP6LBFGSCentralZoomTrial(&low, &high)
-		} else {
-			t = biggsEXP6LBFGSCentralExpandTrial(&previous, &current)
+		} else if t = biggsEXP6LBFGSCentralExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return biggsEXP6LBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return biggsEXP6LBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return biggsEXP6LBFGSCentralLineResult{calls: calls, rising: trend.contradicts(), end: biggsEXP6LBFGSCentralSearchExhausted}
 }
@@ -946,6 +1092,11 @@ func biggsEXP6LBFGSCentralFaithfulStep(x, xt, d *[6]float64, t float64) bool {
 	return true
 }
 
+// biggsEXP6LBFGSCentralStepCap: without bounds a step may be as long as the search wants.
+func biggsEXP6LBFGSCentralStepCap(x, d *[6]float64, tiny float64, b *biggsEXP6LBFGSCentralBox) float64 {
+	return math.Inf(1)
+}
+
 // biggsEXP6LBFGSCentralTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -970,10 +1121,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func biggsEXP6LBFGSCentralAcceptLow(x, d *[6]float64, low *biggsEXP6LBFGSCentralLinePoint, lowGradient *[6]float64, calls int, xt, gt *[6]float64) biggsEXP6LBFGSCentralLineResult {
-	biggsEXP6LBFGSCentralMoveTo(xt, x, low.step, d)
+func biggsEXP6LBFGSCentralAcceptLow(x, d *[6]float64, low *biggsEXP6LBFGSCentralLinePoint, lowGradient *[6]float64, calls int, xt, gt *[6]float64, diffs *biggsEXP6LBFGSCentralDifferences) biggsEXP6LBFGSCentralLineResult {
+	biggsEXP6LBFGSCentralTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return biggsEXP6LBFGSCentralLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: biggsEXP6LBFGSCentralSearchAccepted}
+}
+
+// biggsEXP6LBFGSCentralTrialPoint is x + t·d.
+func biggsEXP6LBFGSCentralTrialPoint(out, x *[6]float64, t float64, d *[6]float64, b *biggsEXP6LBFGSCentralBox) {
+	biggsEXP6LBFGSCentralMoveTo(out, x, t, d)
 }
 
 // biggsEXP6LBFGSCentralMoveTo sets out = x + t·d.

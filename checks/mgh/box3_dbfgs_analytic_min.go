@@ -88,6 +88,9 @@ func Box3DBFGSAnalyticDefaultLimits() Box3DBFGSAnalyticLimits {
 	}
 }
 
+// box3DBFGSAnalyticBox is empty: mgh.toml sets no bounds on Box3DBFGSAnalytic.
+type box3DBFGSAnalyticBox struct{}
+
 // Box3DBFGSAnalytic minimizes Box3D from x0, as mgh.toml specifies.
 //
 // Direction bfgs: BFGS quasi-Newton with a dense inverse-Hessian approximation (dim² numbers).
@@ -105,7 +108,7 @@ func Box3DBFGSAnalytic(x0 [3]float64) Box3DBFGSAnalyticResult {
 
 // Box3DBFGSAnalyticWithLimits is Box3DBFGSAnalytic with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func Box3DBFGSAnalyticWithLimits(x0 [3]float64, limits Box3DBFGSAnalyticLimits) Box3DBFGSAnalyticResult {
-	out := box3DBFGSAnalyticMinimize(x0, limits)
+	out := box3DBFGSAnalyticMinimize(x0, limits, box3DBFGSAnalyticBox{})
 	return Box3DBFGSAnalyticResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func box3DBFGSAnalyticMinimize(x0 [3]float64, lim Box3DBFGSAnalyticLimits) box3DBFGSAnalyticOutcome {
-	out := box3DBFGSAnalyticOutcome{x: x0, status: Box3DBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
+func box3DBFGSAnalyticMinimize(x0 [3]float64, lim Box3DBFGSAnalyticLimits, bounds box3DBFGSAnalyticBox) box3DBFGSAnalyticOutcome {
+	x := x0
+	box3DBFGSAnalyticEnterBox(&x, &bounds)
+	out := box3DBFGSAnalyticOutcome{x: x, status: Box3DBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := Box3D(&x)
 	out.f, out.evaluations = fx, 1
 	if !box3DBFGSAnalyticFinite(fx) || !box3DBFGSAnalyticFiniteVec(&x) {
 		out.status = Box3DBFGSAnalyticNonFiniteStart
 		return out
 	}
-	var diffs box3DBFGSAnalyticDifferences
+	diffs := box3DBFGSAnalyticDifferences{bounds: bounds}
 	calls, ok := box3DBFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+box3DBFGSAnalyticDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [3]float64
-	box3DBFGSAnalyticDerivative(&x, fx, &g, &diffs)
-	out.evaluations += box3DBFGSAnalyticDerivativeCost
+	out.evaluations += box3DBFGSAnalyticDerivative(&x, fx, &g, &diffs)
 
 	if !box3DBFGSAnalyticFiniteVec(&g) {
 		out.status = Box3DBFGSAnalyticNonFiniteGradient
@@ -211,7 +214,7 @@ func box3DBFGSAnalyticMinimize(x0 [3]float64, lim Box3DBFGSAnalyticLimits) box3D
 		case !confirmed:
 			box3DBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := box3DBFGSAnalyticGradientMeasure(&g, &e, &x, fx)
+		measure, floor := box3DBFGSAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, box3DBFGSAnalyticLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func box3DBFGSAnalyticMinimize(x0 [3]float64, lim Box3DBFGSAnalyticLimits) box3D
 			if rises >= 8 {
 				return best.ending(Box3DBFGSAnalyticDiverged, out.iterations, out.evaluations)
 			}
+			box3DBFGSAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(Box3DBFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		box3DBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := box3DBFGSAnalyticDot(&g, &d)
 		if !(now < 0) || !box3DBFGSAnalyticFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			box3DBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = box3DBFGSAnalyticDot(&g, &d)
 		}
 		first := float64(box3DBFGSAnalyticStepInitial)
@@ -267,7 +271,7 @@ func box3DBFGSAnalyticMinimize(x0 [3]float64, lim Box3DBFGSAnalyticLimits) box3D
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := box3DBFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := box3DBFGSAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := box3DBFGSAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case box3DBFGSAnalyticSearchOutOfBudget:
@@ -303,8 +307,7 @@ func box3DBFGSAnalyticMinimize(x0 [3]float64, lim Box3DBFGSAnalyticLimits) box3D
 				}
 				return best.ending(Box3DBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			box3DBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += box3DBFGSAnalyticDerivativeCost
+			out.evaluations += box3DBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		box3DBFGSAnalyticDifference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o box3DBFGSAnalyticOutcome) ending(end Box3DBFGSAnalyticStatus, iterations
 	return o
 }
 
+// box3DBFGSAnalyticEnterBox: without bounds every start is inside.
+func box3DBFGSAnalyticEnterBox(x *[3]float64, b *box3DBFGSAnalyticBox) {}
+
 // box3DBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func box3DBFGSAnalyticFiniteVec(x *[3]float64) bool {
 	return true
 }
 
-// box3DBFGSAnalyticDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// box3DBFGSAnalyticDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type box3DBFGSAnalyticDifferences struct {
 	ratio     [3]float64
 	curvature [3]float64
 	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see box3DBFGSAnalyticRoundingFloor)
+	bounds    box3DBFGSAnalyticBox
 }
 
 // box3DBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
@@ -384,8 +392,9 @@ func box3DBFGSAnalyticCalibrate(x *[3]float64, fx float64, diffs *box3DBFGSAnaly
 }
 
 // box3DBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func box3DBFGSAnalyticDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *box3DBFGSAnalyticDifferences) {
+func box3DBFGSAnalyticDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *box3DBFGSAnalyticDifferences) int {
 	Box3DGrad(x, g)
+	return 0
 }
 
 // box3DBFGSAnalyticDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
@@ -525,13 +534,13 @@ func box3DBFGSAnalyticConfirmGradient(x *[3]float64, fx float64, g, e *[3]float6
 		wide.ratio[i] *= 2
 	}
 	var doubled [3]float64
-	box3DBFGSAnalyticDerivative(x, fx, g, diffs)
-	box3DBFGSAnalyticDerivative(x, fx, &doubled, &wide)
+	calls += box3DBFGSAnalyticDerivative(x, fx, g, diffs)
+	calls += box3DBFGSAnalyticDerivative(x, fx, &doubled, &wide)
 	box3DBFGSAnalyticGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * box3DBFGSAnalyticAbs(g[i]-doubled[i])
 	}
-	return calls + 2*box3DBFGSAnalyticDerivativeCost, true
+	return calls, true
 }
 
 // box3DBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
@@ -573,18 +582,60 @@ func box3DBFGSAnalyticDiagonalCurvature(x, g *[3]float64, diffs *box3DBFGSAnalyt
 	var moved [3]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := box3DBFGSAnalyticProbeStep(xi, box3DBFGSAnalyticSquareRoot(box3DBFGSAnalyticUnitRoundoff)*box3DBFGSAnalyticLarger(1, box3DBFGSAnalyticAbs(xi)))
-		probe[i] = up
-		Box3DGrad(&probe, &moved)
-		h[i] = box3DBFGSAnalyticAbs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := box3DBFGSAnalyticCoordinateRange(i, diffs)
+		up, delta := box3DBFGSAnalyticProbeStep(xi, box3DBFGSAnalyticOneSide(xi, box3DBFGSAnalyticSquareRoot(box3DBFGSAnalyticUnitRoundoff)*box3DBFGSAnalyticLarger(1, box3DBFGSAnalyticAbs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			Box3DGrad(&probe, &moved)
+			h[i] = box3DBFGSAnalyticAbs(moved[i]-g[i]) / box3DBFGSAnalyticAbs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// box3DBFGSAnalyticProbeStep returns x_i moved by h, and the step actually representable.
-func box3DBFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// box3DBFGSAnalyticCoordinateRange: without bounds any probe is allowed.
+func box3DBFGSAnalyticCoordinateRange(i int, diffs *box3DBFGSAnalyticDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// box3DBFGSAnalyticProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func box3DBFGSAnalyticProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := box3DBFGSAnalyticClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// box3DBFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func box3DBFGSAnalyticClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// box3DBFGSAnalyticOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func box3DBFGSAnalyticOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // box3DBFGSAnalyticSquareRoot returns √v.
@@ -600,6 +651,11 @@ func box3DBFGSAnalyticLarger(a, b float64) float64 {
 		return a
 	}
 	return b
+}
+
+// box3DBFGSAnalyticStationarity measures the gradient itself.
+func box3DBFGSAnalyticStationarity(g, e, x *[3]float64, fx float64, b *box3DBFGSAnalyticBox) (measure, floor float64) {
+	return box3DBFGSAnalyticGradientMeasure(g, e, x, fx)
 }
 
 // box3DBFGSAnalyticGradientMeasure is the scale-free measure
@@ -635,6 +691,14 @@ func box3DBFGSAnalyticStepWithin(s, x *[3]float64, tol float64) bool {
 	return true
 }
 
+// box3DBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
+func box3DBFGSAnalyticCurvaturePair(s, y, x *[3]float64, b *box3DBFGSAnalyticBox) {}
+
+// box3DBFGSAnalyticSearchDirection is the direction's own.
+func box3DBFGSAnalyticSearchDirection(dir *box3DBFGSAnalyticDirection, x, g, d *[3]float64, b *box3DBFGSAnalyticBox) {
+	dir.compute(g, d)
+}
+
 // box3DBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func box3DBFGSAnalyticTinyStep(x, d *[3]float64, tol float64) float64 {
@@ -662,7 +726,10 @@ func box3DBFGSAnalyticTinyStep(x, d *[3]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (box3DBFGSAnalyticStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -671,13 +738,17 @@ func box3DBFGSAnalyticTinyStep(x, d *[3]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func box3DBFGSAnalyticLineSearch(x *[3]float64, fx float64, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *box3DBFGSAnalyticDifferences) box3DBFGSAnalyticLineResult {
+func box3DBFGSAnalyticLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *box3DBFGSAnalyticDifferences) box3DBFGSAnalyticLineResult {
 	low := box3DBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high box3DBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                                 // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend box3DBFGSAnalyticRiseTrend // of the trials failing sufficient decrease
+	var trend box3DBFGSAnalyticRiseTrend                         // of the trials failing sufficient decrease
+	limit := box3DBFGSAnalyticStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < box3DBFGSAnalyticStepTrials; trial++ {
 		if bracketed && box3DBFGSAnalyticAbs(high.step-low.step) <= tiny {
@@ -687,12 +758,12 @@ func box3DBFGSAnalyticLineSearch(x *[3]float64, fx float64, d *[3]float64, slope
 			if low.step == 0 {
 				return box3DBFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: box3DBFGSAnalyticTinyOrExhausted(box3DBFGSAnalyticFinite(high.value))}
 			}
-			return box3DBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return box3DBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return box3DBFGSAnalyticLineResult{calls: calls, end: box3DBFGSAnalyticSearchOutOfBudget}
 		}
-		box3DBFGSAnalyticMoveTo(xt, x, t, d)
+		box3DBFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := box3DBFGSAnalyticLinePoint{step: t, value: Box3D(xt)}
 		calls++
 		previous := low
@@ -703,8 +774,7 @@ func box3DBFGSAnalyticLineSearch(x *[3]float64, fx float64, d *[3]float64, slope
 			if calls+box3DBFGSAnalyticDerivativeCost > budget {
 				return box3DBFGSAnalyticLineResult{calls: calls, end: box3DBFGSAnalyticSearchOutOfBudget}
 			}
-			box3DBFGSAnalyticDerivative(xt, current.value, gt, diffs)
-			calls += box3DBFGSAnalyticDerivativeCost
+			calls += box3DBFGSAnalyticDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = box3DBFGSAnalyticDot(gt, d), true
 			switch {
 			case !box3DBFGSAnalyticFinite(current.slope):
@@ -715,18 +785,22 @@ func box3DBFGSAnalyticLineSearch(x *[3]float64, fx float64, d *[3]float64, slope
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return box3DBFGSAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: box3DBFGSAnalyticSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = box3DBFGSAnalyticZoomTrial(&low, &high)
-		} else {
-			t = box3DBFGSAnalyticExpandTrial(&previous, &current)
+		} else if t = box3DBFGSAnalyticExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return box3DBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return box3DBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return box3DBFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: box3DBFGSAnalyticSearchExhausted}
 }
@@ -813,6 +887,11 @@ func box3DBFGSAnalyticFaithfulStep(x, xt, d *[3]float64, t float64) bool {
 	return true
 }
 
+// box3DBFGSAnalyticStepCap: without bounds a step may be as long as the search wants.
+func box3DBFGSAnalyticStepCap(x, d *[3]float64, tiny float64, b *box3DBFGSAnalyticBox) float64 {
+	return math.Inf(1)
+}
+
 // box3DBFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -837,10 +916,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func box3DBFGSAnalyticAcceptLow(x, d *[3]float64, low *box3DBFGSAnalyticLinePoint, lowGradient *[3]float64, calls int, xt, gt *[3]float64) box3DBFGSAnalyticLineResult {
-	box3DBFGSAnalyticMoveTo(xt, x, low.step, d)
+func box3DBFGSAnalyticAcceptLow(x, d *[3]float64, low *box3DBFGSAnalyticLinePoint, lowGradient *[3]float64, calls int, xt, gt *[3]float64, diffs *box3DBFGSAnalyticDifferences) box3DBFGSAnalyticLineResult {
+	box3DBFGSAnalyticTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return box3DBFGSAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: box3DBFGSAnalyticSearchAccepted}
+}
+
+// box3DBFGSAnalyticTrialPoint is x + t·d.
+func box3DBFGSAnalyticTrialPoint(out, x *[3]float64, t float64, d *[3]float64, b *box3DBFGSAnalyticBox) {
+	box3DBFGSAnalyticMoveTo(out, x, t, d)
 }
 
 // box3DBFGSAnalyticMoveTo sets out = x + t·d.
@@ -895,21 +979,6 @@ func box3DBFGSAnalyticModelMinimizer(a, b *box3DBFGSAnalyticLinePoint) (t float6
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, box3DBFGSAnalyticFinite(t)
-}
-
-// box3DBFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func box3DBFGSAnalyticClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // box3DBFGSAnalyticExpandTrial picks a larger trial after current met sufficient decrease

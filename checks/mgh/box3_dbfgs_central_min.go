@@ -88,6 +88,9 @@ func Box3DBFGSCentralDefaultLimits() Box3DBFGSCentralLimits {
 	}
 }
 
+// box3DBFGSCentralBox is empty: mgh.toml sets no bounds on Box3DBFGSCentral.
+type box3DBFGSCentralBox struct{}
+
 // Box3DBFGSCentral minimizes Box3D from x0, as mgh.toml specifies.
 //
 // Direction bfgs: BFGS quasi-Newton with a dense inverse-Hessian approximation (dim² numbers).
@@ -105,7 +108,7 @@ func Box3DBFGSCentral(x0 [3]float64) Box3DBFGSCentralResult {
 
 // Box3DBFGSCentralWithLimits is Box3DBFGSCentral with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func Box3DBFGSCentralWithLimits(x0 [3]float64, limits Box3DBFGSCentralLimits) Box3DBFGSCentralResult {
-	out := box3DBFGSCentralMinimize(x0, limits)
+	out := box3DBFGSCentralMinimize(x0, limits, box3DBFGSCentralBox{})
 	return Box3DBFGSCentralResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func box3DBFGSCentralMinimize(x0 [3]float64, lim Box3DBFGSCentralLimits) box3DBFGSCentralOutcome {
-	out := box3DBFGSCentralOutcome{x: x0, status: Box3DBFGSCentralOutOfEvaluations, gradient: math.NaN()}
+func box3DBFGSCentralMinimize(x0 [3]float64, lim Box3DBFGSCentralLimits, bounds box3DBFGSCentralBox) box3DBFGSCentralOutcome {
+	x := x0
+	box3DBFGSCentralEnterBox(&x, &bounds)
+	out := box3DBFGSCentralOutcome{x: x, status: Box3DBFGSCentralOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := Box3D(&x)
 	out.f, out.evaluations = fx, 1
 	if !box3DBFGSCentralFinite(fx) || !box3DBFGSCentralFiniteVec(&x) {
 		out.status = Box3DBFGSCentralNonFiniteStart
 		return out
 	}
-	var diffs box3DBFGSCentralDifferences
+	diffs := box3DBFGSCentralDifferences{bounds: bounds}
 	calls, ok := box3DBFGSCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+box3DBFGSCentralDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [3]float64
-	box3DBFGSCentralDerivative(&x, fx, &g, &diffs)
-	out.evaluations += box3DBFGSCentralDerivativeCost
+	out.evaluations += box3DBFGSCentralDerivative(&x, fx, &g, &diffs)
 
 	if !box3DBFGSCentralFiniteVec(&g) {
 		out.status = Box3DBFGSCentralNonFiniteGradient
@@ -211,7 +214,7 @@ func box3DBFGSCentralMinimize(x0 [3]float64, lim Box3DBFGSCentralLimits) box3DBF
 		case !confirmed:
 			box3DBFGSCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := box3DBFGSCentralGradientMeasure(&g, &e, &x, fx)
+		measure, floor := box3DBFGSCentralStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, box3DBFGSCentralLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func box3DBFGSCentralMinimize(x0 [3]float64, lim Box3DBFGSCentralLimits) box3DBF
 			if rises >= 8 {
 				return best.ending(Box3DBFGSCentralDiverged, out.iterations, out.evaluations)
 			}
+			box3DBFGSCentralCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(Box3DBFGSCentralOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		box3DBFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := box3DBFGSCentralDot(&g, &d)
 		if !(now < 0) || !box3DBFGSCentralFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			box3DBFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = box3DBFGSCentralDot(&g, &d)
 		}
 		first := float64(box3DBFGSCentralStepInitial)
@@ -267,7 +271,7 @@ func box3DBFGSCentralMinimize(x0 [3]float64, lim Box3DBFGSCentralLimits) box3DBF
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := box3DBFGSCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := box3DBFGSCentralLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := box3DBFGSCentralLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case box3DBFGSCentralSearchOutOfBudget:
@@ -303,8 +307,7 @@ func box3DBFGSCentralMinimize(x0 [3]float64, lim Box3DBFGSCentralLimits) box3DBF
 				}
 				return best.ending(Box3DBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			box3DBFGSCentralDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += box3DBFGSCentralDerivativeCost
+			out.evaluations += box3DBFGSCentralDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		box3DBFGSCentralDifference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o box3DBFGSCentralOutcome) ending(end Box3DBFGSCentralStatus, iterations, 
 	return o
 }
 
+// box3DBFGSCentralEnterBox: without bounds every start is inside.
+func box3DBFGSCentralEnterBox(x *[3]float64, b *box3DBFGSCentralBox) {}
+
 // box3DBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func box3DBFGSCentralFiniteVec(x *[3]float64) bool {
 	return true
 }
 
-// box3DBFGSCentralDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// box3DBFGSCentralDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type box3DBFGSCentralDifferences struct {
 	ratio     [3]float64
 	curvature [3]float64
 	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see box3DBFGSCentralRoundingFloor)
+	bounds    box3DBFGSCentralBox
 }
 
 // box3DBFGSCentralCalibrate chooses each central-difference interval from the
@@ -397,19 +405,45 @@ func box3DBFGSCentralCalibrate(x *[3]float64, fx float64, diffs *box3DBFGSCentra
 	var slope [3]float64
 	scale := box3DBFGSCentralAbs(fx)
 	quarter := box3DBFGSCentralSquareRoot(box3DBFGSCentralSquareRoot(box3DBFGSCentralUnitRoundoff)) // u^(1/4)
+	calls := 0
 	for i := range probe {
-		if 4*(i+1) > budget {
-			return 4 * i, false
+		if calls+4 > budget {
+			return calls, false
 		}
 		xi := probe[i]
 		bar := quarter * box3DBFGSCentralLarger(1, box3DBFGSCentralAbs(xi))
+		lower, upper := box3DBFGSCentralCoordinateRange(i, diffs)
+		if xi+2*bar > upper || xi-2*bar < lower {
+			// At a bound: three probes on the side with room, at h, 2h
+			// and 3h, for f‴ ≈ (f(3h) − 3f(2h) + 3f(h) − f(0))/h³ (the
+			// third forward difference).
+			h := box3DBFGSCentralOneSide(xi, bar, 3, lower, upper)
+			if h == 0 {
+				continue // fixed by equal bounds
+			}
+			var f [3]float64
+			for k := range f {
+				probe[i], _ = box3DBFGSCentralProbeStep(xi, float64(k+1)*h, lower, upper)
+				f[k] = Box3D(&probe)
+				scale = box3DBFGSCentralLarger(scale, box3DBFGSCentralMagnitude(f[k]))
+			}
+			probe[i] = xi
+			calls += 3
+			if box3DBFGSCentralFinite(f[0]) && box3DBFGSCentralFinite(f[1]) && box3DBFGSCentralFinite(f[2]) {
+				diffs.curvature[i] = box3DBFGSCentralAbs(f[2]-3*f[1]+3*f[0]-fx) / box3DBFGSCentralAbs(h*h*h)
+				diffs.second[i] = box3DBFGSCentralAbs(fx-2*f[0]+f[1]) / (h * h)
+				slope[i] = (-3*fx + 4*f[0] - f[1]) / (2 * h)
+			}
+			continue
+		}
 		var f [4]float64
 		for k, m := range [4]float64{2, 1, -1, -2} {
-			probe[i], _ = box3DBFGSCentralProbeStep(xi, m*bar)
+			probe[i], _ = box3DBFGSCentralProbeStep(xi, m*bar, lower, upper)
 			f[k] = Box3D(&probe)
 			scale = box3DBFGSCentralLarger(scale, box3DBFGSCentralMagnitude(f[k]))
 		}
 		probe[i] = xi
+		calls += 4
 		if box3DBFGSCentralFinite(f[0]) && box3DBFGSCentralFinite(f[1]) && box3DBFGSCentralFinite(f[2]) && box3DBFGSCentralFinite(f[3]) {
 			diffs.curvature[i] = box3DBFGSCentralAbs(f[0]-2*f[1]+2*f[2]-f[3]) / (2 * bar * bar * bar)
 			diffs.second[i] = box3DBFGSCentralAbs(f[1]-2*fx+f[2]) / (bar * bar)
@@ -428,7 +462,7 @@ func box3DBFGSCentralCalibrate(x *[3]float64, fx float64, diffs *box3DBFGSCentra
 		diffs.ratio[i] = box3DBFGSCentralClampBetween(h, 64*box3DBFGSCentralUnitRoundoff*s, bar) / s
 		diffs.curvature[i] = third
 	}
-	return 4 * len(probe), true
+	return calls, true
 }
 
 // box3DBFGSCentralAbs returns |v|.
@@ -454,10 +488,48 @@ func box3DBFGSCentralLarger(a, b float64) float64 {
 	return b
 }
 
-// box3DBFGSCentralProbeStep returns x_i moved by h, and the step actually representable.
-func box3DBFGSCentralProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// box3DBFGSCentralCoordinateRange: without bounds any probe is allowed.
+func box3DBFGSCentralCoordinateRange(i int, diffs *box3DBFGSCentralDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// box3DBFGSCentralOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func box3DBFGSCentralOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
+}
+
+// box3DBFGSCentralProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func box3DBFGSCentralProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := box3DBFGSCentralClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// box3DBFGSCentralClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func box3DBFGSCentralClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
 }
 
 // box3DBFGSCentralMagnitude is |v| for a finite v and 0 otherwise: a probe that fell
@@ -493,42 +565,85 @@ func box3DBFGSCentralCubeRoot(v float64) float64 {
 	return math.Cbrt(v)
 }
 
-// box3DBFGSCentralClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func box3DBFGSCentralClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
-}
-
 // box3DBFGSCentralDerivative approximates the gradient by central differences,
 //
 //	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),
 //
 // with the intervals box3DBFGSCentralCalibrate chose, h_i = ratio_i·max(1, |x_i|)
-// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls; fx is
-// not needed.
-func box3DBFGSCentralDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *box3DBFGSCentralDifferences) {
+// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls. Where
+// a bound leaves no room on one side, the three-point endpoint formula on
+// the other side takes its place at the same cost (see parabola); a
+// variable fixed by equal bounds costs nothing and gets 0.
+func box3DBFGSCentralDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *box3DBFGSCentralDifferences) int {
 	probe := *x
+	calls := 0
 	for i := range probe {
 		xi := probe[i]
-		h := diffs.ratio[i] * box3DBFGSCentralLarger(1, box3DBFGSCentralAbs(xi))
-		up, _ := box3DBFGSCentralProbeStep(xi, h)
-		down, _ := box3DBFGSCentralProbeStep(xi, -h)
-		probe[i] = up
-		fUp := Box3D(&probe)
-		probe[i] = down
-		fDown := Box3D(&probe)
-		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
-		probe[i] = xi
+		h, oneSided := box3DBFGSCentralCentralInterval(x, i, diffs)
+		lower, upper := box3DBFGSCentralCoordinateRange(i, diffs)
+		switch {
+		case h == 0:
+			g[i] = 0 // fixed by equal bounds
+			continue
+		case oneSided:
+			g[i], _, _ = box3DBFGSCentralSidedProbes(&probe, i, fx, h, lower, upper) // the three-point endpoint formula
+		default:
+			up, _ := box3DBFGSCentralProbeStep(xi, h, lower, upper)
+			down, _ := box3DBFGSCentralProbeStep(xi, -h, lower, upper)
+			probe[i] = up
+			fUp := Box3D(&probe)
+			probe[i] = down
+			fDown := Box3D(&probe)
+			g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+			probe[i] = xi
+		}
+		calls += 2
 	}
+	return calls
+}
+
+// box3DBFGSCentralCentralInterval is the interval of coordinate i at x, ratio_i·max(1,
+// |x_i|), and whether the box leaves room for probes on both sides; when
+// it does not, the interval is signed towards the side with room for
+// probes at h and 2h, and shortened where the box is narrower than that
+// (see box3DBFGSCentralOneSide).
+func box3DBFGSCentralCentralInterval(x *[3]float64, i int, diffs *box3DBFGSCentralDifferences) (h float64, oneSided bool) {
+	lower, upper := box3DBFGSCentralCoordinateRange(i, diffs)
+	h = diffs.ratio[i] * box3DBFGSCentralLarger(1, box3DBFGSCentralAbs(x[i]))
+	if x[i]+h <= upper && x[i]-h >= lower {
+		return h, false
+	}
+	return box3DBFGSCentralOneSide(x[i], h, 2, lower, upper), true
+}
+
+// box3DBFGSCentralSidedProbes evaluates f at x moved along coordinate i by h and by 2h,
+// kept within [lower, upper], and returns the slope and second derivative
+// of the parabola through them and (x, fx) (see parabola), and the larger
+// magnitude of the two values.
+func box3DBFGSCentralSidedProbes(probe *[3]float64, i int, fx, h, lower, upper float64) (slope, second, size float64) {
+	xi := probe[i]
+	near, a := box3DBFGSCentralProbeStep(xi, h, lower, upper)
+	far, b := box3DBFGSCentralProbeStep(xi, 2*h, lower, upper)
+	probe[i] = near
+	fNear := Box3D(probe)
+	probe[i] = far
+	fFar := Box3D(probe)
+	probe[i] = xi
+	slope, second = box3DBFGSCentralParabola(fx, a, fNear, b, fFar)
+	return slope, second, box3DBFGSCentralLarger(box3DBFGSCentralMagnitude(fNear), box3DBFGSCentralMagnitude(fFar))
+}
+
+// box3DBFGSCentralParabola returns the first and second derivatives at 0 of the parabola
+// through (0, f0), (a, fa) and (b, fb), for probes on one side of a bound.
+// With b = 2a they are the three-point endpoint formulas
+// f′ ≈ (−3f0 + 4fa − fb)/(2a), error a²|f‴|/3, and
+// f″ ≈ (f0 − 2fa + fb)/a² (Burden & Faires, Numerical Analysis, §4.1
+// and §4.1's second-derivative formulas, from memory); written for unequal
+// a and b, so that the representable steps can be used.
+func box3DBFGSCentralParabola(f0, a, fa, b, fb float64) (slope, second float64) {
+	slope = -(a+b)/(a*b)*f0 + b/(a*(b-a))*fa - a/(b*(b-a))*fb
+	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
+	return slope, second
 }
 
 // box3DBFGSCentralDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
@@ -668,13 +783,13 @@ func box3DBFGSCentralConfirmGradient(x *[3]float64, fx float64, g, e *[3]float64
 		wide.ratio[i] *= 2
 	}
 	var doubled [3]float64
-	box3DBFGSCentralDerivative(x, fx, g, diffs)
-	box3DBFGSCentralDerivative(x, fx, &doubled, &wide)
+	calls += box3DBFGSCentralDerivative(x, fx, g, diffs)
+	calls += box3DBFGSCentralDerivative(x, fx, &doubled, &wide)
 	box3DBFGSCentralGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * box3DBFGSCentralAbs(g[i]-doubled[i])
 	}
-	return calls + 2*box3DBFGSCentralDerivativeCost, true
+	return calls, true
 }
 
 // box3DBFGSCentralGradientError bounds each central difference's error by twice its
@@ -684,8 +799,16 @@ func box3DBFGSCentralConfirmGradient(x *[3]float64, fx float64, g, e *[3]float64
 func box3DBFGSCentralGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *box3DBFGSCentralDifferences) {
 	noise := box3DBFGSCentralNoiseLevel(x, fx, g)
 	for i := range e {
-		h := diffs.ratio[i] * box3DBFGSCentralLarger(1, box3DBFGSCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		h, oneSided := box3DBFGSCentralCentralInterval(x, i, diffs)
+		h = box3DBFGSCentralAbs(h)
+		switch {
+		case h == 0:
+			e[i] = 0 // fixed by equal bounds
+		case oneSided:
+			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+		default:
+			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		}
 	}
 }
 
@@ -707,6 +830,11 @@ func box3DBFGSCentralRoundingFloor(x, g, e *[3]float64, diffs *box3DBFGSCentralD
 // calibration, which box3DBFGSCentralConfirmGradient has just made at x.
 func box3DBFGSCentralDiagonalCurvature(x, g *[3]float64, diffs *box3DBFGSCentralDifferences, h *[3]float64) {
 	*h = diffs.second
+}
+
+// box3DBFGSCentralStationarity measures the gradient itself.
+func box3DBFGSCentralStationarity(g, e, x *[3]float64, fx float64, b *box3DBFGSCentralBox) (measure, floor float64) {
+	return box3DBFGSCentralGradientMeasure(g, e, x, fx)
 }
 
 // box3DBFGSCentralGradientMeasure is the scale-free measure
@@ -742,6 +870,14 @@ func box3DBFGSCentralStepWithin(s, x *[3]float64, tol float64) bool {
 	return true
 }
 
+// box3DBFGSCentralCurvaturePair: without bounds the pair is used as it is.
+func box3DBFGSCentralCurvaturePair(s, y, x *[3]float64, b *box3DBFGSCentralBox) {}
+
+// box3DBFGSCentralSearchDirection is the direction's own.
+func box3DBFGSCentralSearchDirection(dir *box3DBFGSCentralDirection, x, g, d *[3]float64, b *box3DBFGSCentralBox) {
+	dir.compute(g, d)
+}
+
 // box3DBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func box3DBFGSCentralTinyStep(x, d *[3]float64, tol float64) float64 {
@@ -769,7 +905,10 @@ func box3DBFGSCentralTinyStep(x, d *[3]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (box3DBFGSCentralStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -778,13 +917,17 @@ func box3DBFGSCentralTinyStep(x, d *[3]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func box3DBFGSCentralLineSearch(x *[3]float64, fx float64, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *box3DBFGSCentralDifferences) box3DBFGSCentralLineResult {
+func box3DBFGSCentralLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *box3DBFGSCentralDifferences) box3DBFGSCentralLineResult {
 	low := box3DBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high box3DBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                                // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend box3DBFGSCentralRiseTrend // of the trials failing sufficient decrease
+	var trend box3DBFGSCentralRiseTrend                         // of the trials failing sufficient decrease
+	limit := box3DBFGSCentralStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < box3DBFGSCentralStepTrials; trial++ {
 		if bracketed && box3DBFGSCentralAbs(high.step-low.step) <= tiny {
@@ -794,12 +937,12 @@ func box3DBFGSCentralLineSearch(x *[3]float64, fx float64, d *[3]float64, slope,
 			if low.step == 0 {
 				return box3DBFGSCentralLineResult{calls: calls, rising: trend.contradicts(), end: box3DBFGSCentralTinyOrExhausted(box3DBFGSCentralFinite(high.value))}
 			}
-			return box3DBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return box3DBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return box3DBFGSCentralLineResult{calls: calls, end: box3DBFGSCentralSearchOutOfBudget}
 		}
-		box3DBFGSCentralMoveTo(xt, x, t, d)
+		box3DBFGSCentralTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := box3DBFGSCentralLinePoint{step: t, value: Box3D(xt)}
 		calls++
 		previous := low
@@ -810,8 +953,7 @@ func box3DBFGSCentralLineSearch(x *[3]float64, fx float64, d *[3]float64, slope,
 			if calls+box3DBFGSCentralDerivativeCost > budget {
 				return box3DBFGSCentralLineResult{calls: calls, end: box3DBFGSCentralSearchOutOfBudget}
 			}
-			box3DBFGSCentralDerivative(xt, current.value, gt, diffs)
-			calls += box3DBFGSCentralDerivativeCost
+			calls += box3DBFGSCentralDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = box3DBFGSCentralDot(gt, d), true
 			switch {
 			case !box3DBFGSCentralFinite(current.slope):
@@ -822,18 +964,22 @@ func box3DBFGSCentralLineSearch(x *[3]float64, fx float64, d *[3]float64, slope,
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return box3DBFGSCentralLineResult{step: t, value: current.value, calls: calls, gradient: true, end: box3DBFGSCentralSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = box3DBFGSCentralZoomTrial(&low, &high)
-		} else {
-			t = box3DBFGSCentralExpandTrial(&previous, &current)
+		} else if t = box3DBFGSCentralExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return box3DBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return box3DBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return box3DBFGSCentralLineResult{calls: calls, rising: trend.contradicts(), end: box3DBFGSCentralSearchExhausted}
 }
@@ -920,6 +1066,11 @@ func box3DBFGSCentralFaithfulStep(x, xt, d *[3]float64, t float64) bool {
 	return true
 }
 
+// box3DBFGSCentralStepCap: without bounds a step may be as long as the search wants.
+func box3DBFGSCentralStepCap(x, d *[3]float64, tiny float64, b *box3DBFGSCentralBox) float64 {
+	return math.Inf(1)
+}
+
 // box3DBFGSCentralTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -944,10 +1095,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func box3DBFGSCentralAcceptLow(x, d *[3]float64, low *box3DBFGSCentralLinePoint, lowGradient *[3]float64, calls int, xt, gt *[3]float64) box3DBFGSCentralLineResult {
-	box3DBFGSCentralMoveTo(xt, x, low.step, d)
+func box3DBFGSCentralAcceptLow(x, d *[3]float64, low *box3DBFGSCentralLinePoint, lowGradient *[3]float64, calls int, xt, gt *[3]float64, diffs *box3DBFGSCentralDifferences) box3DBFGSCentralLineResult {
+	box3DBFGSCentralTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return box3DBFGSCentralLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: box3DBFGSCentralSearchAccepted}
+}
+
+// box3DBFGSCentralTrialPoint is x + t·d.
+func box3DBFGSCentralTrialPoint(out, x *[3]float64, t float64, d *[3]float64, b *box3DBFGSCentralBox) {
+	box3DBFGSCentralMoveTo(out, x, t, d)
 }
 
 // box3DBFGSCentralMoveTo sets out = x + t·d.

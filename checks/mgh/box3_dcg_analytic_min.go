@@ -88,6 +88,9 @@ func Box3DCGAnalyticDefaultLimits() Box3DCGAnalyticLimits {
 	}
 }
 
+// box3DCGAnalyticBox is empty: mgh.toml sets no bounds on Box3DCGAnalytic.
+type box3DCGAnalyticBox struct{}
+
 // Box3DCGAnalytic minimizes Box3D from x0, as mgh.toml specifies.
 //
 // Direction cg: nonlinear conjugate gradients, Polak–Ribière clipped at zero (PR+), restarted every dim steps.
@@ -105,7 +108,7 @@ func Box3DCGAnalytic(x0 [3]float64) Box3DCGAnalyticResult {
 
 // Box3DCGAnalyticWithLimits is Box3DCGAnalytic with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func Box3DCGAnalyticWithLimits(x0 [3]float64, limits Box3DCGAnalyticLimits) Box3DCGAnalyticResult {
-	out := box3DCGAnalyticMinimize(x0, limits)
+	out := box3DCGAnalyticMinimize(x0, limits, box3DCGAnalyticBox{})
 	return Box3DCGAnalyticResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func box3DCGAnalyticMinimize(x0 [3]float64, lim Box3DCGAnalyticLimits) box3DCGAnalyticOutcome {
-	out := box3DCGAnalyticOutcome{x: x0, status: Box3DCGAnalyticOutOfEvaluations, gradient: math.NaN()}
+func box3DCGAnalyticMinimize(x0 [3]float64, lim Box3DCGAnalyticLimits, bounds box3DCGAnalyticBox) box3DCGAnalyticOutcome {
+	x := x0
+	box3DCGAnalyticEnterBox(&x, &bounds)
+	out := box3DCGAnalyticOutcome{x: x, status: Box3DCGAnalyticOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := Box3D(&x)
 	out.f, out.evaluations = fx, 1
 	if !box3DCGAnalyticFinite(fx) || !box3DCGAnalyticFiniteVec(&x) {
 		out.status = Box3DCGAnalyticNonFiniteStart
 		return out
 	}
-	var diffs box3DCGAnalyticDifferences
+	diffs := box3DCGAnalyticDifferences{bounds: bounds}
 	calls, ok := box3DCGAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+box3DCGAnalyticDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [3]float64
-	box3DCGAnalyticDerivative(&x, fx, &g, &diffs)
-	out.evaluations += box3DCGAnalyticDerivativeCost
+	out.evaluations += box3DCGAnalyticDerivative(&x, fx, &g, &diffs)
 
 	if !box3DCGAnalyticFiniteVec(&g) {
 		out.status = Box3DCGAnalyticNonFiniteGradient
@@ -211,7 +214,7 @@ func box3DCGAnalyticMinimize(x0 [3]float64, lim Box3DCGAnalyticLimits) box3DCGAn
 		case !confirmed:
 			box3DCGAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := box3DCGAnalyticGradientMeasure(&g, &e, &x, fx)
+		measure, floor := box3DCGAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, box3DCGAnalyticLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func box3DCGAnalyticMinimize(x0 [3]float64, lim Box3DCGAnalyticLimits) box3DCGAn
 			if rises >= 8 {
 				return best.ending(Box3DCGAnalyticDiverged, out.iterations, out.evaluations)
 			}
+			box3DCGAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(Box3DCGAnalyticOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		box3DCGAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := box3DCGAnalyticDot(&g, &d)
 		if !(now < 0) || !box3DCGAnalyticFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			box3DCGAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = box3DCGAnalyticDot(&g, &d)
 		}
 		first := float64(box3DCGAnalyticStepInitial)
@@ -267,7 +271,7 @@ func box3DCGAnalyticMinimize(x0 [3]float64, lim Box3DCGAnalyticLimits) box3DCGAn
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := box3DCGAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := box3DCGAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := box3DCGAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case box3DCGAnalyticSearchOutOfBudget:
@@ -303,8 +307,7 @@ func box3DCGAnalyticMinimize(x0 [3]float64, lim Box3DCGAnalyticLimits) box3DCGAn
 				}
 				return best.ending(Box3DCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			box3DCGAnalyticDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += box3DCGAnalyticDerivativeCost
+			out.evaluations += box3DCGAnalyticDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		box3DCGAnalyticDifference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o box3DCGAnalyticOutcome) ending(end Box3DCGAnalyticStatus, iterations, ev
 	return o
 }
 
+// box3DCGAnalyticEnterBox: without bounds every start is inside.
+func box3DCGAnalyticEnterBox(x *[3]float64, b *box3DCGAnalyticBox) {}
+
 // box3DCGAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func box3DCGAnalyticFiniteVec(x *[3]float64) bool {
 	return true
 }
 
-// box3DCGAnalyticDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// box3DCGAnalyticDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type box3DCGAnalyticDifferences struct {
 	ratio     [3]float64
 	curvature [3]float64
 	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see box3DCGAnalyticRoundingFloor)
+	bounds    box3DCGAnalyticBox
 }
 
 // box3DCGAnalyticCalibrate: an analytic gradient needs no intervals.
@@ -384,8 +392,9 @@ func box3DCGAnalyticCalibrate(x *[3]float64, fx float64, diffs *box3DCGAnalyticD
 }
 
 // box3DCGAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func box3DCGAnalyticDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *box3DCGAnalyticDifferences) {
+func box3DCGAnalyticDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *box3DCGAnalyticDifferences) int {
 	Box3DGrad(x, g)
+	return 0
 }
 
 // box3DCGAnalyticDirection is nonlinear conjugate gradients with the Polak–Ribière
@@ -517,13 +526,13 @@ func box3DCGAnalyticConfirmGradient(x *[3]float64, fx float64, g, e *[3]float64,
 		wide.ratio[i] *= 2
 	}
 	var doubled [3]float64
-	box3DCGAnalyticDerivative(x, fx, g, diffs)
-	box3DCGAnalyticDerivative(x, fx, &doubled, &wide)
+	calls += box3DCGAnalyticDerivative(x, fx, g, diffs)
+	calls += box3DCGAnalyticDerivative(x, fx, &doubled, &wide)
 	box3DCGAnalyticGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * box3DCGAnalyticAbs(g[i]-doubled[i])
 	}
-	return calls + 2*box3DCGAnalyticDerivativeCost, true
+	return calls, true
 }
 
 // box3DCGAnalyticGradientError: the analytic gradient is taken as exact; its error is
@@ -565,23 +574,70 @@ func box3DCGAnalyticDiagonalCurvature(x, g *[3]float64, diffs *box3DCGAnalyticDi
 	var moved [3]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := box3DCGAnalyticProbeStep(xi, box3DCGAnalyticSquareRoot(box3DCGAnalyticUnitRoundoff)*box3DCGAnalyticLarger(1, box3DCGAnalyticAbs(xi)))
-		probe[i] = up
-		Box3DGrad(&probe, &moved)
-		h[i] = box3DCGAnalyticAbs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := box3DCGAnalyticCoordinateRange(i, diffs)
+		up, delta := box3DCGAnalyticProbeStep(xi, box3DCGAnalyticOneSide(xi, box3DCGAnalyticSquareRoot(box3DCGAnalyticUnitRoundoff)*box3DCGAnalyticLarger(1, box3DCGAnalyticAbs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			Box3DGrad(&probe, &moved)
+			h[i] = box3DCGAnalyticAbs(moved[i]-g[i]) / box3DCGAnalyticAbs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// box3DCGAnalyticProbeStep returns x_i moved by h, and the step actually representable.
-func box3DCGAnalyticProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// box3DCGAnalyticCoordinateRange: without bounds any probe is allowed.
+func box3DCGAnalyticCoordinateRange(i int, diffs *box3DCGAnalyticDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// box3DCGAnalyticProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func box3DCGAnalyticProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := box3DCGAnalyticClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// box3DCGAnalyticClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func box3DCGAnalyticClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// box3DCGAnalyticOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func box3DCGAnalyticOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // box3DCGAnalyticSquareRoot returns √v.
 func box3DCGAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// box3DCGAnalyticStationarity measures the gradient itself.
+func box3DCGAnalyticStationarity(g, e, x *[3]float64, fx float64, b *box3DCGAnalyticBox) (measure, floor float64) {
+	return box3DCGAnalyticGradientMeasure(g, e, x, fx)
 }
 
 // box3DCGAnalyticGradientMeasure is the scale-free measure
@@ -617,6 +673,14 @@ func box3DCGAnalyticStepWithin(s, x *[3]float64, tol float64) bool {
 	return true
 }
 
+// box3DCGAnalyticCurvaturePair: without bounds the pair is used as it is.
+func box3DCGAnalyticCurvaturePair(s, y, x *[3]float64, b *box3DCGAnalyticBox) {}
+
+// box3DCGAnalyticSearchDirection is the direction's own.
+func box3DCGAnalyticSearchDirection(dir *box3DCGAnalyticDirection, x, g, d *[3]float64, b *box3DCGAnalyticBox) {
+	dir.compute(g, d)
+}
+
 // box3DCGAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func box3DCGAnalyticTinyStep(x, d *[3]float64, tol float64) float64 {
@@ -644,7 +708,10 @@ func box3DCGAnalyticTinyStep(x, d *[3]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (box3DCGAnalyticStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -653,13 +720,17 @@ func box3DCGAnalyticTinyStep(x, d *[3]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func box3DCGAnalyticLineSearch(x *[3]float64, fx float64, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *box3DCGAnalyticDifferences) box3DCGAnalyticLineResult {
+func box3DCGAnalyticLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *box3DCGAnalyticDifferences) box3DCGAnalyticLineResult {
 	low := box3DCGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high box3DCGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                               // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend box3DCGAnalyticRiseTrend // of the trials failing sufficient decrease
+	var trend box3DCGAnalyticRiseTrend                         // of the trials failing sufficient decrease
+	limit := box3DCGAnalyticStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < box3DCGAnalyticStepTrials; trial++ {
 		if bracketed && box3DCGAnalyticAbs(high.step-low.step) <= tiny {
@@ -669,12 +740,12 @@ func box3DCGAnalyticLineSearch(x *[3]float64, fx float64, d *[3]float64, slope, 
 			if low.step == 0 {
 				return box3DCGAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: box3DCGAnalyticTinyOrExhausted(box3DCGAnalyticFinite(high.value))}
 			}
-			return box3DCGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return box3DCGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return box3DCGAnalyticLineResult{calls: calls, end: box3DCGAnalyticSearchOutOfBudget}
 		}
-		box3DCGAnalyticMoveTo(xt, x, t, d)
+		box3DCGAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := box3DCGAnalyticLinePoint{step: t, value: Box3D(xt)}
 		calls++
 		previous := low
@@ -685,8 +756,7 @@ func box3DCGAnalyticLineSearch(x *[3]float64, fx float64, d *[3]float64, slope, 
 			if calls+box3DCGAnalyticDerivativeCost > budget {
 				return box3DCGAnalyticLineResult{calls: calls, end: box3DCGAnalyticSearchOutOfBudget}
 			}
-			box3DCGAnalyticDerivative(xt, current.value, gt, diffs)
-			calls += box3DCGAnalyticDerivativeCost
+			calls += box3DCGAnalyticDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = box3DCGAnalyticDot(gt, d), true
 			switch {
 			case !box3DCGAnalyticFinite(current.slope):
@@ -697,18 +767,22 @@ func box3DCGAnalyticLineSearch(x *[3]float64, fx float64, d *[3]float64, slope, 
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return box3DCGAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: box3DCGAnalyticSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = box3DCGAnalyticZoomTrial(&low, &high)
-		} else {
-			t = box3DCGAnalyticExpandTrial(&previous, &current)
+		} else if t = box3DCGAnalyticExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return box3DCGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return box3DCGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return box3DCGAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: box3DCGAnalyticSearchExhausted}
 }
@@ -795,6 +869,11 @@ func box3DCGAnalyticFaithfulStep(x, xt, d *[3]float64, t float64) bool {
 	return true
 }
 
+// box3DCGAnalyticStepCap: without bounds a step may be as long as the search wants.
+func box3DCGAnalyticStepCap(x, d *[3]float64, tiny float64, b *box3DCGAnalyticBox) float64 {
+	return math.Inf(1)
+}
+
 // box3DCGAnalyticTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -819,10 +898,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func box3DCGAnalyticAcceptLow(x, d *[3]float64, low *box3DCGAnalyticLinePoint, lowGradient *[3]float64, calls int, xt, gt *[3]float64) box3DCGAnalyticLineResult {
-	box3DCGAnalyticMoveTo(xt, x, low.step, d)
+func box3DCGAnalyticAcceptLow(x, d *[3]float64, low *box3DCGAnalyticLinePoint, lowGradient *[3]float64, calls int, xt, gt *[3]float64, diffs *box3DCGAnalyticDifferences) box3DCGAnalyticLineResult {
+	box3DCGAnalyticTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return box3DCGAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: box3DCGAnalyticSearchAccepted}
+}
+
+// box3DCGAnalyticTrialPoint is x + t·d.
+func box3DCGAnalyticTrialPoint(out, x *[3]float64, t float64, d *[3]float64, b *box3DCGAnalyticBox) {
+	box3DCGAnalyticMoveTo(out, x, t, d)
 }
 
 // box3DCGAnalyticMoveTo sets out = x + t·d.
@@ -877,21 +961,6 @@ func box3DCGAnalyticModelMinimizer(a, b *box3DCGAnalyticLinePoint) (t float64, o
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, box3DCGAnalyticFinite(t)
-}
-
-// box3DCGAnalyticClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func box3DCGAnalyticClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // box3DCGAnalyticExpandTrial picks a larger trial after current met sufficient decrease

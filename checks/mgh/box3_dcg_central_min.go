@@ -88,6 +88,9 @@ func Box3DCGCentralDefaultLimits() Box3DCGCentralLimits {
 	}
 }
 
+// box3DCGCentralBox is empty: mgh.toml sets no bounds on Box3DCGCentral.
+type box3DCGCentralBox struct{}
+
 // Box3DCGCentral minimizes Box3D from x0, as mgh.toml specifies.
 //
 // Direction cg: nonlinear conjugate gradients, Polak–Ribière clipped at zero (PR+), restarted every dim steps.
@@ -105,7 +108,7 @@ func Box3DCGCentral(x0 [3]float64) Box3DCGCentralResult {
 
 // Box3DCGCentralWithLimits is Box3DCGCentral with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func Box3DCGCentralWithLimits(x0 [3]float64, limits Box3DCGCentralLimits) Box3DCGCentralResult {
-	out := box3DCGCentralMinimize(x0, limits)
+	out := box3DCGCentralMinimize(x0, limits, box3DCGCentralBox{})
 	return Box3DCGCentralResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func box3DCGCentralMinimize(x0 [3]float64, lim Box3DCGCentralLimits) box3DCGCentralOutcome {
-	out := box3DCGCentralOutcome{x: x0, status: Box3DCGCentralOutOfEvaluations, gradient: math.NaN()}
+func box3DCGCentralMinimize(x0 [3]float64, lim Box3DCGCentralLimits, bounds box3DCGCentralBox) box3DCGCentralOutcome {
+	x := x0
+	box3DCGCentralEnterBox(&x, &bounds)
+	out := box3DCGCentralOutcome{x: x, status: Box3DCGCentralOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := Box3D(&x)
 	out.f, out.evaluations = fx, 1
 	if !box3DCGCentralFinite(fx) || !box3DCGCentralFiniteVec(&x) {
 		out.status = Box3DCGCentralNonFiniteStart
 		return out
 	}
-	var diffs box3DCGCentralDifferences
+	diffs := box3DCGCentralDifferences{bounds: bounds}
 	calls, ok := box3DCGCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+box3DCGCentralDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [3]float64
-	box3DCGCentralDerivative(&x, fx, &g, &diffs)
-	out.evaluations += box3DCGCentralDerivativeCost
+	out.evaluations += box3DCGCentralDerivative(&x, fx, &g, &diffs)
 
 	if !box3DCGCentralFiniteVec(&g) {
 		out.status = Box3DCGCentralNonFiniteGradient
@@ -211,7 +214,7 @@ func box3DCGCentralMinimize(x0 [3]float64, lim Box3DCGCentralLimits) box3DCGCent
 		case !confirmed:
 			box3DCGCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := box3DCGCentralGradientMeasure(&g, &e, &x, fx)
+		measure, floor := box3DCGCentralStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, box3DCGCentralLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func box3DCGCentralMinimize(x0 [3]float64, lim Box3DCGCentralLimits) box3DCGCent
 			if rises >= 8 {
 				return best.ending(Box3DCGCentralDiverged, out.iterations, out.evaluations)
 			}
+			box3DCGCentralCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(Box3DCGCentralOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		box3DCGCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := box3DCGCentralDot(&g, &d)
 		if !(now < 0) || !box3DCGCentralFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			box3DCGCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = box3DCGCentralDot(&g, &d)
 		}
 		first := float64(box3DCGCentralStepInitial)
@@ -267,7 +271,7 @@ func box3DCGCentralMinimize(x0 [3]float64, lim Box3DCGCentralLimits) box3DCGCent
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := box3DCGCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := box3DCGCentralLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := box3DCGCentralLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case box3DCGCentralSearchOutOfBudget:
@@ -303,8 +307,7 @@ func box3DCGCentralMinimize(x0 [3]float64, lim Box3DCGCentralLimits) box3DCGCent
 				}
 				return best.ending(Box3DCGCentralOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			box3DCGCentralDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += box3DCGCentralDerivativeCost
+			out.evaluations += box3DCGCentralDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		box3DCGCentralDifference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o box3DCGCentralOutcome) ending(end Box3DCGCentralStatus, iterations, eval
 	return o
 }
 
+// box3DCGCentralEnterBox: without bounds every start is inside.
+func box3DCGCentralEnterBox(x *[3]float64, b *box3DCGCentralBox) {}
+
 // box3DCGCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func box3DCGCentralFiniteVec(x *[3]float64) bool {
 	return true
 }
 
-// box3DCGCentralDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// box3DCGCentralDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type box3DCGCentralDifferences struct {
 	ratio     [3]float64
 	curvature [3]float64
 	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see box3DCGCentralRoundingFloor)
+	bounds    box3DCGCentralBox
 }
 
 // box3DCGCentralCalibrate chooses each central-difference interval from the
@@ -397,19 +405,45 @@ func box3DCGCentralCalibrate(x *[3]float64, fx float64, diffs *box3DCGCentralDif
 	var slope [3]float64
 	scale := box3DCGCentralAbs(fx)
 	quarter := box3DCGCentralSquareRoot(box3DCGCentralSquareRoot(box3DCGCentralUnitRoundoff)) // u^(1/4)
+	calls := 0
 	for i := range probe {
-		if 4*(i+1) > budget {
-			return 4 * i, false
+		if calls+4 > budget {
+			return calls, false
 		}
 		xi := probe[i]
 		bar := quarter * box3DCGCentralLarger(1, box3DCGCentralAbs(xi))
+		lower, upper := box3DCGCentralCoordinateRange(i, diffs)
+		if xi+2*bar > upper || xi-2*bar < lower {
+			// At a bound: three probes on the side with room, at h, 2h
+			// and 3h, for f‴ ≈ (f(3h) − 3f(2h) + 3f(h) − f(0))/h³ (the
+			// third forward difference).
+			h := box3DCGCentralOneSide(xi, bar, 3, lower, upper)
+			if h == 0 {
+				continue // fixed by equal bounds
+			}
+			var f [3]float64
+			for k := range f {
+				probe[i], _ = box3DCGCentralProbeStep(xi, float64(k+1)*h, lower, upper)
+				f[k] = Box3D(&probe)
+				scale = box3DCGCentralLarger(scale, box3DCGCentralMagnitude(f[k]))
+			}
+			probe[i] = xi
+			calls += 3
+			if box3DCGCentralFinite(f[0]) && box3DCGCentralFinite(f[1]) && box3DCGCentralFinite(f[2]) {
+				diffs.curvature[i] = box3DCGCentralAbs(f[2]-3*f[1]+3*f[0]-fx) / box3DCGCentralAbs(h*h*h)
+				diffs.second[i] = box3DCGCentralAbs(fx-2*f[0]+f[1]) / (h * h)
+				slope[i] = (-3*fx + 4*f[0] - f[1]) / (2 * h)
+			}
+			continue
+		}
 		var f [4]float64
 		for k, m := range [4]float64{2, 1, -1, -2} {
-			probe[i], _ = box3DCGCentralProbeStep(xi, m*bar)
+			probe[i], _ = box3DCGCentralProbeStep(xi, m*bar, lower, upper)
 			f[k] = Box3D(&probe)
 			scale = box3DCGCentralLarger(scale, box3DCGCentralMagnitude(f[k]))
 		}
 		probe[i] = xi
+		calls += 4
 		if box3DCGCentralFinite(f[0]) && box3DCGCentralFinite(f[1]) && box3DCGCentralFinite(f[2]) && box3DCGCentralFinite(f[3]) {
 			diffs.curvature[i] = box3DCGCentralAbs(f[0]-2*f[1]+2*f[2]-f[3]) / (2 * bar * bar * bar)
 			diffs.second[i] = box3DCGCentralAbs(f[1]-2*fx+f[2]) / (bar * bar)
@@ -428,7 +462,7 @@ func box3DCGCentralCalibrate(x *[3]float64, fx float64, diffs *box3DCGCentralDif
 		diffs.ratio[i] = box3DCGCentralClampBetween(h, 64*box3DCGCentralUnitRoundoff*s, bar) / s
 		diffs.curvature[i] = third
 	}
-	return 4 * len(probe), true
+	return calls, true
 }
 
 // box3DCGCentralAbs returns |v|.
@@ -454,10 +488,48 @@ func box3DCGCentralLarger(a, b float64) float64 {
 	return b
 }
 
-// box3DCGCentralProbeStep returns x_i moved by h, and the step actually representable.
-func box3DCGCentralProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// box3DCGCentralCoordinateRange: without bounds any probe is allowed.
+func box3DCGCentralCoordinateRange(i int, diffs *box3DCGCentralDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// box3DCGCentralOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func box3DCGCentralOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
+}
+
+// box3DCGCentralProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func box3DCGCentralProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := box3DCGCentralClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// box3DCGCentralClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func box3DCGCentralClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
 }
 
 // box3DCGCentralMagnitude is |v| for a finite v and 0 otherwise: a probe that fell
@@ -493,42 +565,85 @@ func box3DCGCentralCubeRoot(v float64) float64 {
 	return math.Cbrt(v)
 }
 
-// box3DCGCentralClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func box3DCGCentralClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
-}
-
 // box3DCGCentralDerivative approximates the gradient by central differences,
 //
 //	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),
 //
 // with the intervals box3DCGCentralCalibrate chose, h_i = ratio_i·max(1, |x_i|)
-// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls; fx is
-// not needed.
-func box3DCGCentralDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *box3DCGCentralDifferences) {
+// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls. Where
+// a bound leaves no room on one side, the three-point endpoint formula on
+// the other side takes its place at the same cost (see parabola); a
+// variable fixed by equal bounds costs nothing and gets 0.
+func box3DCGCentralDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *box3DCGCentralDifferences) int {
 	probe := *x
+	calls := 0
 	for i := range probe {
 		xi := probe[i]
-		h := diffs.ratio[i] * box3DCGCentralLarger(1, box3DCGCentralAbs(xi))
-		up, _ := box3DCGCentralProbeStep(xi, h)
-		down, _ := box3DCGCentralProbeStep(xi, -h)
-		probe[i] = up
-		fUp := Box3D(&probe)
-		probe[i] = down
-		fDown := Box3D(&probe)
-		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
-		probe[i] = xi
+		h, oneSided := box3DCGCentralCentralInterval(x, i, diffs)
+		lower, upper := box3DCGCentralCoordinateRange(i, diffs)
+		switch {
+		case h == 0:
+			g[i] = 0 // fixed by equal bounds
+			continue
+		case oneSided:
+			g[i], _, _ = box3DCGCentralSidedProbes(&probe, i, fx, h, lower, upper) // the three-point endpoint formula
+		default:
+			up, _ := box3DCGCentralProbeStep(xi, h, lower, upper)
+			down, _ := box3DCGCentralProbeStep(xi, -h, lower, upper)
+			probe[i] = up
+			fUp := Box3D(&probe)
+			probe[i] = down
+			fDown := Box3D(&probe)
+			g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+			probe[i] = xi
+		}
+		calls += 2
 	}
+	return calls
+}
+
+// box3DCGCentralCentralInterval is the interval of coordinate i at x, ratio_i·max(1,
+// |x_i|), and whether the box leaves room for probes on both sides; when
+// it does not, the interval is signed towards the side with room for
+// probes at h and 2h, and shortened where the box is narrower than that
+// (see box3DCGCentralOneSide).
+func box3DCGCentralCentralInterval(x *[3]float64, i int, diffs *box3DCGCentralDifferences) (h float64, oneSided bool) {
+	lower, upper := box3DCGCentralCoordinateRange(i, diffs)
+	h = diffs.ratio[i] * box3DCGCentralLarger(1, box3DCGCentralAbs(x[i]))
+	if x[i]+h <= upper && x[i]-h >= lower {
+		return h, false
+	}
+	return box3DCGCentralOneSide(x[i], h, 2, lower, upper), true
+}
+
+// box3DCGCentralSidedProbes evaluates f at x moved along coordinate i by h and by 2h,
+// kept within [lower, upper], and returns the slope and second derivative
+// of the parabola through them and (x, fx) (see parabola), and the larger
+// magnitude of the two values.
+func box3DCGCentralSidedProbes(probe *[3]float64, i int, fx, h, lower, upper float64) (slope, second, size float64) {
+	xi := probe[i]
+	near, a := box3DCGCentralProbeStep(xi, h, lower, upper)
+	far, b := box3DCGCentralProbeStep(xi, 2*h, lower, upper)
+	probe[i] = near
+	fNear := Box3D(probe)
+	probe[i] = far
+	fFar := Box3D(probe)
+	probe[i] = xi
+	slope, second = box3DCGCentralParabola(fx, a, fNear, b, fFar)
+	return slope, second, box3DCGCentralLarger(box3DCGCentralMagnitude(fNear), box3DCGCentralMagnitude(fFar))
+}
+
+// box3DCGCentralParabola returns the first and second derivatives at 0 of the parabola
+// through (0, f0), (a, fa) and (b, fb), for probes on one side of a bound.
+// With b = 2a they are the three-point endpoint formulas
+// f′ ≈ (−3f0 + 4fa − fb)/(2a), error a²|f‴|/3, and
+// f″ ≈ (f0 − 2fa + fb)/a² (Burden & Faires, Numerical Analysis, §4.1
+// and §4.1's second-derivative formulas, from memory); written for unequal
+// a and b, so that the representable steps can be used.
+func box3DCGCentralParabola(f0, a, fa, b, fb float64) (slope, second float64) {
+	slope = -(a+b)/(a*b)*f0 + b/(a*(b-a))*fa - a/(b*(b-a))*fb
+	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
+	return slope, second
 }
 
 // box3DCGCentralDirection is nonlinear conjugate gradients with the Polak–Ribière
@@ -650,13 +765,13 @@ func box3DCGCentralConfirmGradient(x *[3]float64, fx float64, g, e *[3]float64, 
 		wide.ratio[i] *= 2
 	}
 	var doubled [3]float64
-	box3DCGCentralDerivative(x, fx, g, diffs)
-	box3DCGCentralDerivative(x, fx, &doubled, &wide)
+	calls += box3DCGCentralDerivative(x, fx, g, diffs)
+	calls += box3DCGCentralDerivative(x, fx, &doubled, &wide)
 	box3DCGCentralGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * box3DCGCentralAbs(g[i]-doubled[i])
 	}
-	return calls + 2*box3DCGCentralDerivativeCost, true
+	return calls, true
 }
 
 // box3DCGCentralGradientError bounds each central difference's error by twice its
@@ -666,8 +781,16 @@ func box3DCGCentralConfirmGradient(x *[3]float64, fx float64, g, e *[3]float64, 
 func box3DCGCentralGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *box3DCGCentralDifferences) {
 	noise := box3DCGCentralNoiseLevel(x, fx, g)
 	for i := range e {
-		h := diffs.ratio[i] * box3DCGCentralLarger(1, box3DCGCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		h, oneSided := box3DCGCentralCentralInterval(x, i, diffs)
+		h = box3DCGCentralAbs(h)
+		switch {
+		case h == 0:
+			e[i] = 0 // fixed by equal bounds
+		case oneSided:
+			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+		default:
+			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		}
 	}
 }
 
@@ -689,6 +812,11 @@ func box3DCGCentralRoundingFloor(x, g, e *[3]float64, diffs *box3DCGCentralDiffe
 // calibration, which box3DCGCentralConfirmGradient has just made at x.
 func box3DCGCentralDiagonalCurvature(x, g *[3]float64, diffs *box3DCGCentralDifferences, h *[3]float64) {
 	*h = diffs.second
+}
+
+// box3DCGCentralStationarity measures the gradient itself.
+func box3DCGCentralStationarity(g, e, x *[3]float64, fx float64, b *box3DCGCentralBox) (measure, floor float64) {
+	return box3DCGCentralGradientMeasure(g, e, x, fx)
 }
 
 // box3DCGCentralGradientMeasure is the scale-free measure
@@ -724,6 +852,14 @@ func box3DCGCentralStepWithin(s, x *[3]float64, tol float64) bool {
 	return true
 }
 
+// box3DCGCentralCurvaturePair: without bounds the pair is used as it is.
+func box3DCGCentralCurvaturePair(s, y, x *[3]float64, b *box3DCGCentralBox) {}
+
+// box3DCGCentralSearchDirection is the direction's own.
+func box3DCGCentralSearchDirection(dir *box3DCGCentralDirection, x, g, d *[3]float64, b *box3DCGCentralBox) {
+	dir.compute(g, d)
+}
+
 // box3DCGCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func box3DCGCentralTinyStep(x, d *[3]float64, tol float64) float64 {
@@ -751,7 +887,10 @@ func box3DCGCentralTinyStep(x, d *[3]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (box3DCGCentralStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -760,13 +899,17 @@ func box3DCGCentralTinyStep(x, d *[3]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func box3DCGCentralLineSearch(x *[3]float64, fx float64, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *box3DCGCentralDifferences) box3DCGCentralLineResult {
+func box3DCGCentralLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *box3DCGCentralDifferences) box3DCGCentralLineResult {
 	low := box3DCGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high box3DCGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                              // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend box3DCGCentralRiseTrend // of the trials failing sufficient decrease
+	var trend box3DCGCentralRiseTrend                         // of the trials failing sufficient decrease
+	limit := box3DCGCentralStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < box3DCGCentralStepTrials; trial++ {
 		if bracketed && box3DCGCentralAbs(high.step-low.step) <= tiny {
@@ -776,12 +919,12 @@ func box3DCGCentralLineSearch(x *[3]float64, fx float64, d *[3]float64, slope, f
 			if low.step == 0 {
 				return box3DCGCentralLineResult{calls: calls, rising: trend.contradicts(), end: box3DCGCentralTinyOrExhausted(box3DCGCentralFinite(high.value))}
 			}
-			return box3DCGCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return box3DCGCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return box3DCGCentralLineResult{calls: calls, end: box3DCGCentralSearchOutOfBudget}
 		}
-		box3DCGCentralMoveTo(xt, x, t, d)
+		box3DCGCentralTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := box3DCGCentralLinePoint{step: t, value: Box3D(xt)}
 		calls++
 		previous := low
@@ -792,8 +935,7 @@ func box3DCGCentralLineSearch(x *[3]float64, fx float64, d *[3]float64, slope, f
 			if calls+box3DCGCentralDerivativeCost > budget {
 				return box3DCGCentralLineResult{calls: calls, end: box3DCGCentralSearchOutOfBudget}
 			}
-			box3DCGCentralDerivative(xt, current.value, gt, diffs)
-			calls += box3DCGCentralDerivativeCost
+			calls += box3DCGCentralDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = box3DCGCentralDot(gt, d), true
 			switch {
 			case !box3DCGCentralFinite(current.slope):
@@ -804,18 +946,22 @@ func box3DCGCentralLineSearch(x *[3]float64, fx float64, d *[3]float64, slope, f
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return box3DCGCentralLineResult{step: t, value: current.value, calls: calls, gradient: true, end: box3DCGCentralSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = box3DCGCentralZoomTrial(&low, &high)
-		} else {
-			t = box3DCGCentralExpandTrial(&previous, &current)
+		} else if t = box3DCGCentralExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return box3DCGCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return box3DCGCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return box3DCGCentralLineResult{calls: calls, rising: trend.contradicts(), end: box3DCGCentralSearchExhausted}
 }
@@ -902,6 +1048,11 @@ func box3DCGCentralFaithfulStep(x, xt, d *[3]float64, t float64) bool {
 	return true
 }
 
+// box3DCGCentralStepCap: without bounds a step may be as long as the search wants.
+func box3DCGCentralStepCap(x, d *[3]float64, tiny float64, b *box3DCGCentralBox) float64 {
+	return math.Inf(1)
+}
+
 // box3DCGCentralTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -926,10 +1077,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func box3DCGCentralAcceptLow(x, d *[3]float64, low *box3DCGCentralLinePoint, lowGradient *[3]float64, calls int, xt, gt *[3]float64) box3DCGCentralLineResult {
-	box3DCGCentralMoveTo(xt, x, low.step, d)
+func box3DCGCentralAcceptLow(x, d *[3]float64, low *box3DCGCentralLinePoint, lowGradient *[3]float64, calls int, xt, gt *[3]float64, diffs *box3DCGCentralDifferences) box3DCGCentralLineResult {
+	box3DCGCentralTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return box3DCGCentralLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: box3DCGCentralSearchAccepted}
+}
+
+// box3DCGCentralTrialPoint is x + t·d.
+func box3DCGCentralTrialPoint(out, x *[3]float64, t float64, d *[3]float64, b *box3DCGCentralBox) {
+	box3DCGCentralMoveTo(out, x, t, d)
 }
 
 // box3DCGCentralMoveTo sets out = x + t·d.

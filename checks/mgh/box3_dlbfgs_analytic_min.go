@@ -88,6 +88,9 @@ func Box3DLBFGSAnalyticDefaultLimits() Box3DLBFGSAnalyticLimits {
 	}
 }
 
+// box3DLBFGSAnalyticBox is empty: mgh.toml sets no bounds on Box3DLBFGSAnalytic.
+type box3DLBFGSAnalyticBox struct{}
+
 // Box3DLBFGSAnalytic minimizes Box3D from x0, as mgh.toml specifies.
 //
 // Direction lbfgs: limited-memory BFGS: the last `memory` pairs, two-loop recursion (2·memory·dim numbers).
@@ -105,7 +108,7 @@ func Box3DLBFGSAnalytic(x0 [3]float64) Box3DLBFGSAnalyticResult {
 
 // Box3DLBFGSAnalyticWithLimits is Box3DLBFGSAnalytic with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func Box3DLBFGSAnalyticWithLimits(x0 [3]float64, limits Box3DLBFGSAnalyticLimits) Box3DLBFGSAnalyticResult {
-	out := box3DLBFGSAnalyticMinimize(x0, limits)
+	out := box3DLBFGSAnalyticMinimize(x0, limits, box3DLBFGSAnalyticBox{})
 	return Box3DLBFGSAnalyticResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -159,27 +162,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func box3DLBFGSAnalyticMinimize(x0 [3]float64, lim Box3DLBFGSAnalyticLimits) box3DLBFGSAnalyticOutcome {
-	out := box3DLBFGSAnalyticOutcome{x: x0, status: Box3DLBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
+func box3DLBFGSAnalyticMinimize(x0 [3]float64, lim Box3DLBFGSAnalyticLimits, bounds box3DLBFGSAnalyticBox) box3DLBFGSAnalyticOutcome {
+	x := x0
+	box3DLBFGSAnalyticEnterBox(&x, &bounds)
+	out := box3DLBFGSAnalyticOutcome{x: x, status: Box3DLBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := Box3D(&x)
 	out.f, out.evaluations = fx, 1
 	if !box3DLBFGSAnalyticFinite(fx) || !box3DLBFGSAnalyticFiniteVec(&x) {
 		out.status = Box3DLBFGSAnalyticNonFiniteStart
 		return out
 	}
-	var diffs box3DLBFGSAnalyticDifferences
+	diffs := box3DLBFGSAnalyticDifferences{bounds: bounds}
 	calls, ok := box3DLBFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+box3DLBFGSAnalyticDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [3]float64
-	box3DLBFGSAnalyticDerivative(&x, fx, &g, &diffs)
-	out.evaluations += box3DLBFGSAnalyticDerivativeCost
+	out.evaluations += box3DLBFGSAnalyticDerivative(&x, fx, &g, &diffs)
 
 	if !box3DLBFGSAnalyticFiniteVec(&g) {
 		out.status = Box3DLBFGSAnalyticNonFiniteGradient
@@ -212,7 +215,7 @@ func box3DLBFGSAnalyticMinimize(x0 [3]float64, lim Box3DLBFGSAnalyticLimits) box
 		case !confirmed:
 			box3DLBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := box3DLBFGSAnalyticGradientMeasure(&g, &e, &x, fx)
+		measure, floor := box3DLBFGSAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, box3DLBFGSAnalyticLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -251,16 +254,17 @@ func box3DLBFGSAnalyticMinimize(x0 [3]float64, lim Box3DLBFGSAnalyticLimits) box
 			if rises >= 8 {
 				return best.ending(Box3DLBFGSAnalyticDiverged, out.iterations, out.evaluations)
 			}
+			box3DLBFGSAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(Box3DLBFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		box3DLBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := box3DLBFGSAnalyticDot(&g, &d)
 		if !(now < 0) || !box3DLBFGSAnalyticFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			box3DLBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = box3DLBFGSAnalyticDot(&g, &d)
 		}
 		first := float64(box3DLBFGSAnalyticStepInitial)
@@ -268,7 +272,7 @@ func box3DLBFGSAnalyticMinimize(x0 [3]float64, lim Box3DLBFGSAnalyticLimits) box
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := box3DLBFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := box3DLBFGSAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := box3DLBFGSAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case box3DLBFGSAnalyticSearchOutOfBudget:
@@ -304,8 +308,7 @@ func box3DLBFGSAnalyticMinimize(x0 [3]float64, lim Box3DLBFGSAnalyticLimits) box
 				}
 				return best.ending(Box3DLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			box3DLBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += box3DLBFGSAnalyticDerivativeCost
+			out.evaluations += box3DLBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		box3DLBFGSAnalyticDifference(&s, &xt, &x)
@@ -346,6 +349,9 @@ func (o box3DLBFGSAnalyticOutcome) ending(end Box3DLBFGSAnalyticStatus, iteratio
 	return o
 }
 
+// box3DLBFGSAnalyticEnterBox: without bounds every start is inside.
+func box3DLBFGSAnalyticEnterBox(x *[3]float64, b *box3DLBFGSAnalyticBox) {}
+
 // box3DLBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -368,15 +374,17 @@ func box3DLBFGSAnalyticFiniteVec(x *[3]float64) bool {
 	return true
 }
 
-// box3DLBFGSAnalyticDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// box3DLBFGSAnalyticDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type box3DLBFGSAnalyticDifferences struct {
 	ratio     [3]float64
 	curvature [3]float64
 	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see box3DLBFGSAnalyticRoundingFloor)
+	bounds    box3DLBFGSAnalyticBox
 }
 
 // box3DLBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
@@ -385,8 +393,9 @@ func box3DLBFGSAnalyticCalibrate(x *[3]float64, fx float64, diffs *box3DLBFGSAna
 }
 
 // box3DLBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func box3DLBFGSAnalyticDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *box3DLBFGSAnalyticDifferences) {
+func box3DLBFGSAnalyticDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *box3DLBFGSAnalyticDifferences) int {
 	Box3DGrad(x, g)
+	return 0
 }
 
 // box3DLBFGSAnalyticDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
@@ -551,13 +560,13 @@ func box3DLBFGSAnalyticConfirmGradient(x *[3]float64, fx float64, g, e *[3]float
 		wide.ratio[i] *= 2
 	}
 	var doubled [3]float64
-	box3DLBFGSAnalyticDerivative(x, fx, g, diffs)
-	box3DLBFGSAnalyticDerivative(x, fx, &doubled, &wide)
+	calls += box3DLBFGSAnalyticDerivative(x, fx, g, diffs)
+	calls += box3DLBFGSAnalyticDerivative(x, fx, &doubled, &wide)
 	box3DLBFGSAnalyticGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * box3DLBFGSAnalyticAbs(g[i]-doubled[i])
 	}
-	return calls + 2*box3DLBFGSAnalyticDerivativeCost, true
+	return calls, true
 }
 
 // box3DLBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
@@ -599,18 +608,60 @@ func box3DLBFGSAnalyticDiagonalCurvature(x, g *[3]float64, diffs *box3DLBFGSAnal
 	var moved [3]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := box3DLBFGSAnalyticProbeStep(xi, box3DLBFGSAnalyticSquareRoot(box3DLBFGSAnalyticUnitRoundoff)*box3DLBFGSAnalyticLarger(1, box3DLBFGSAnalyticAbs(xi)))
-		probe[i] = up
-		Box3DGrad(&probe, &moved)
-		h[i] = box3DLBFGSAnalyticAbs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := box3DLBFGSAnalyticCoordinateRange(i, diffs)
+		up, delta := box3DLBFGSAnalyticProbeStep(xi, box3DLBFGSAnalyticOneSide(xi, box3DLBFGSAnalyticSquareRoot(box3DLBFGSAnalyticUnitRoundoff)*box3DLBFGSAnalyticLarger(1, box3DLBFGSAnalyticAbs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			Box3DGrad(&probe, &moved)
+			h[i] = box3DLBFGSAnalyticAbs(moved[i]-g[i]) / box3DLBFGSAnalyticAbs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// box3DLBFGSAnalyticProbeStep returns x_i moved by h, and the step actually representable.
-func box3DLBFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// box3DLBFGSAnalyticCoordinateRange: without bounds any probe is allowed.
+func box3DLBFGSAnalyticCoordinateRange(i int, diffs *box3DLBFGSAnalyticDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// box3DLBFGSAnalyticProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func box3DLBFGSAnalyticProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := box3DLBFGSAnalyticClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// box3DLBFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func box3DLBFGSAnalyticClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// box3DLBFGSAnalyticOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func box3DLBFGSAnalyticOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // box3DLBFGSAnalyticSquareRoot returns √v.
@@ -626,6 +677,11 @@ func box3DLBFGSAnalyticLarger(a, b float64) float64 {
 		return a
 	}
 	return b
+}
+
+// box3DLBFGSAnalyticStationarity measures the gradient itself.
+func box3DLBFGSAnalyticStationarity(g, e, x *[3]float64, fx float64, b *box3DLBFGSAnalyticBox) (measure, floor float64) {
+	return box3DLBFGSAnalyticGradientMeasure(g, e, x, fx)
 }
 
 // box3DLBFGSAnalyticGradientMeasure is the scale-free measure
@@ -661,6 +717,14 @@ func box3DLBFGSAnalyticStepWithin(s, x *[3]float64, tol float64) bool {
 	return true
 }
 
+// box3DLBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
+func box3DLBFGSAnalyticCurvaturePair(s, y, x *[3]float64, b *box3DLBFGSAnalyticBox) {}
+
+// box3DLBFGSAnalyticSearchDirection is the direction's own.
+func box3DLBFGSAnalyticSearchDirection(dir *box3DLBFGSAnalyticDirection, x, g, d *[3]float64, b *box3DLBFGSAnalyticBox) {
+	dir.compute(g, d)
+}
+
 // box3DLBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func box3DLBFGSAnalyticTinyStep(x, d *[3]float64, tol float64) float64 {
@@ -688,7 +752,10 @@ func box3DLBFGSAnalyticTinyStep(x, d *[3]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (box3DLBFGSAnalyticStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -697,13 +764,17 @@ func box3DLBFGSAnalyticTinyStep(x, d *[3]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func box3DLBFGSAnalyticLineSearch(x *[3]float64, fx float64, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *box3DLBFGSAnalyticDifferences) box3DLBFGSAnalyticLineResult {
+func box3DLBFGSAnalyticLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *box3DLBFGSAnalyticDifferences) box3DLBFGSAnalyticLineResult {
 	low := box3DLBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high box3DLBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                                  // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend box3DLBFGSAnalyticRiseTrend // of the trials failing sufficient decrease
+	var trend box3DLBFGSAnalyticRiseTrend                         // of the trials failing sufficient decrease
+	limit := box3DLBFGSAnalyticStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < box3DLBFGSAnalyticStepTrials; trial++ {
 		if bracketed && box3DLBFGSAnalyticAbs(high.step-low.step) <= tiny {
@@ -713,12 +784,12 @@ func box3DLBFGSAnalyticLineSearch(x *[3]float64, fx float64, d *[3]float64, slop
 			if low.step == 0 {
 				return box3DLBFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: box3DLBFGSAnalyticTinyOrExhausted(box3DLBFGSAnalyticFinite(high.value))}
 			}
-			return box3DLBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return box3DLBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return box3DLBFGSAnalyticLineResult{calls: calls, end: box3DLBFGSAnalyticSearchOutOfBudget}
 		}
-		box3DLBFGSAnalyticMoveTo(xt, x, t, d)
+		box3DLBFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := box3DLBFGSAnalyticLinePoint{step: t, value: Box3D(xt)}
 		calls++
 		previous := low
@@ -729,8 +800,7 @@ func box3DLBFGSAnalyticLineSearch(x *[3]float64, fx float64, d *[3]float64, slop
 			if calls+box3DLBFGSAnalyticDerivativeCost > budget {
 				return box3DLBFGSAnalyticLineResult{calls: calls, end: box3DLBFGSAnalyticSearchOutOfBudget}
 			}
-			box3DLBFGSAnalyticDerivative(xt, current.value, gt, diffs)
-			calls += box3DLBFGSAnalyticDerivativeCost
+			calls += box3DLBFGSAnalyticDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = box3DLBFGSAnalyticDot(gt, d), true
 			switch {
 			case !box3DLBFGSAnalyticFinite(current.slope):
@@ -741,18 +811,22 @@ func box3DLBFGSAnalyticLineSearch(x *[3]float64, fx float64, d *[3]float64, slop
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return box3DLBFGSAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: box3DLBFGSAnalyticSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = box3DLBFGSAnalyticZoomTrial(&low, &high)
-		} else {
-			t = box3DLBFGSAnalyticExpandTrial(&previous, &current)
+		} else if t = box3DLBFGSAnalyticExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return box3DLBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return box3DLBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return box3DLBFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: box3DLBFGSAnalyticSearchExhausted}
 }
@@ -839,6 +913,11 @@ func box3DLBFGSAnalyticFaithfulStep(x, xt, d *[3]float64, t float64) bool {
 	return true
 }
 
+// box3DLBFGSAnalyticStepCap: without bounds a step may be as long as the search wants.
+func box3DLBFGSAnalyticStepCap(x, d *[3]float64, tiny float64, b *box3DLBFGSAnalyticBox) float64 {
+	return math.Inf(1)
+}
+
 // box3DLBFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -863,10 +942,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func box3DLBFGSAnalyticAcceptLow(x, d *[3]float64, low *box3DLBFGSAnalyticLinePoint, lowGradient *[3]float64, calls int, xt, gt *[3]float64) box3DLBFGSAnalyticLineResult {
-	box3DLBFGSAnalyticMoveTo(xt, x, low.step, d)
+func box3DLBFGSAnalyticAcceptLow(x, d *[3]float64, low *box3DLBFGSAnalyticLinePoint, lowGradient *[3]float64, calls int, xt, gt *[3]float64, diffs *box3DLBFGSAnalyticDifferences) box3DLBFGSAnalyticLineResult {
+	box3DLBFGSAnalyticTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return box3DLBFGSAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: box3DLBFGSAnalyticSearchAccepted}
+}
+
+// box3DLBFGSAnalyticTrialPoint is x + t·d.
+func box3DLBFGSAnalyticTrialPoint(out, x *[3]float64, t float64, d *[3]float64, b *box3DLBFGSAnalyticBox) {
+	box3DLBFGSAnalyticMoveTo(out, x, t, d)
 }
 
 // box3DLBFGSAnalyticMoveTo sets out = x + t·d.
@@ -921,21 +1005,6 @@ func box3DLBFGSAnalyticModelMinimizer(a, b *box3DLBFGSAnalyticLinePoint) (t floa
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, box3DLBFGSAnalyticFinite(t)
-}
-
-// box3DLBFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func box3DLBFGSAnalyticClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // box3DLBFGSAnalyticExpandTrial picks a larger trial after current met sufficient decrease

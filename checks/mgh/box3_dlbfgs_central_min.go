@@ -88,6 +88,9 @@ func Box3DLBFGSCentralDefaultLimits() Box3DLBFGSCentralLimits {
 	}
 }
 
+// box3DLBFGSCentralBox is empty: mgh.toml sets no bounds on Box3DLBFGSCentral.
+type box3DLBFGSCentralBox struct{}
+
 // Box3DLBFGSCentral minimizes Box3D from x0, as mgh.toml specifies.
 //
 // Direction lbfgs: limited-memory BFGS: the last `memory` pairs, two-loop recursion (2·memory·dim numbers).
@@ -105,7 +108,7 @@ func Box3DLBFGSCentral(x0 [3]float64) Box3DLBFGSCentralResult {
 
 // Box3DLBFGSCentralWithLimits is Box3DLBFGSCentral with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func Box3DLBFGSCentralWithLimits(x0 [3]float64, limits Box3DLBFGSCentralLimits) Box3DLBFGSCentralResult {
-	out := box3DLBFGSCentralMinimize(x0, limits)
+	out := box3DLBFGSCentralMinimize(x0, limits, box3DLBFGSCentralBox{})
 	return Box3DLBFGSCentralResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -159,27 +162,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func box3DLBFGSCentralMinimize(x0 [3]float64, lim Box3DLBFGSCentralLimits) box3DLBFGSCentralOutcome {
-	out := box3DLBFGSCentralOutcome{x: x0, status: Box3DLBFGSCentralOutOfEvaluations, gradient: math.NaN()}
+func box3DLBFGSCentralMinimize(x0 [3]float64, lim Box3DLBFGSCentralLimits, bounds box3DLBFGSCentralBox) box3DLBFGSCentralOutcome {
+	x := x0
+	box3DLBFGSCentralEnterBox(&x, &bounds)
+	out := box3DLBFGSCentralOutcome{x: x, status: Box3DLBFGSCentralOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := Box3D(&x)
 	out.f, out.evaluations = fx, 1
 	if !box3DLBFGSCentralFinite(fx) || !box3DLBFGSCentralFiniteVec(&x) {
 		out.status = Box3DLBFGSCentralNonFiniteStart
 		return out
 	}
-	var diffs box3DLBFGSCentralDifferences
+	diffs := box3DLBFGSCentralDifferences{bounds: bounds}
 	calls, ok := box3DLBFGSCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+box3DLBFGSCentralDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [3]float64
-	box3DLBFGSCentralDerivative(&x, fx, &g, &diffs)
-	out.evaluations += box3DLBFGSCentralDerivativeCost
+	out.evaluations += box3DLBFGSCentralDerivative(&x, fx, &g, &diffs)
 
 	if !box3DLBFGSCentralFiniteVec(&g) {
 		out.status = Box3DLBFGSCentralNonFiniteGradient
@@ -212,7 +215,7 @@ func box3DLBFGSCentralMinimize(x0 [3]float64, lim Box3DLBFGSCentralLimits) box3D
 		case !confirmed:
 			box3DLBFGSCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := box3DLBFGSCentralGradientMeasure(&g, &e, &x, fx)
+		measure, floor := box3DLBFGSCentralStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, box3DLBFGSCentralLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -251,16 +254,17 @@ func box3DLBFGSCentralMinimize(x0 [3]float64, lim Box3DLBFGSCentralLimits) box3D
 			if rises >= 8 {
 				return best.ending(Box3DLBFGSCentralDiverged, out.iterations, out.evaluations)
 			}
+			box3DLBFGSCentralCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(Box3DLBFGSCentralOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		box3DLBFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := box3DLBFGSCentralDot(&g, &d)
 		if !(now < 0) || !box3DLBFGSCentralFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			box3DLBFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = box3DLBFGSCentralDot(&g, &d)
 		}
 		first := float64(box3DLBFGSCentralStepInitial)
@@ -268,7 +272,7 @@ func box3DLBFGSCentralMinimize(x0 [3]float64, lim Box3DLBFGSCentralLimits) box3D
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := box3DLBFGSCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := box3DLBFGSCentralLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := box3DLBFGSCentralLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case box3DLBFGSCentralSearchOutOfBudget:
@@ -304,8 +308,7 @@ func box3DLBFGSCentralMinimize(x0 [3]float64, lim Box3DLBFGSCentralLimits) box3D
 				}
 				return best.ending(Box3DLBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			box3DLBFGSCentralDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += box3DLBFGSCentralDerivativeCost
+			out.evaluations += box3DLBFGSCentralDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		box3DLBFGSCentralDifference(&s, &xt, &x)
@@ -346,6 +349,9 @@ func (o box3DLBFGSCentralOutcome) ending(end Box3DLBFGSCentralStatus, iterations
 	return o
 }
 
+// box3DLBFGSCentralEnterBox: without bounds every start is inside.
+func box3DLBFGSCentralEnterBox(x *[3]float64, b *box3DLBFGSCentralBox) {}
+
 // box3DLBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -368,15 +374,17 @@ func box3DLBFGSCentralFiniteVec(x *[3]float64) bool {
 	return true
 }
 
-// box3DLBFGSCentralDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// box3DLBFGSCentralDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type box3DLBFGSCentralDifferences struct {
 	ratio     [3]float64
 	curvature [3]float64
 	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see box3DLBFGSCentralRoundingFloor)
+	bounds    box3DLBFGSCentralBox
 }
 
 // box3DLBFGSCentralCalibrate chooses each central-difference interval from the
@@ -398,19 +406,45 @@ func box3DLBFGSCentralCalibrate(x *[3]float64, fx float64, diffs *box3DLBFGSCent
 	var slope [3]float64
 	scale := box3DLBFGSCentralAbs(fx)
 	quarter := box3DLBFGSCentralSquareRoot(box3DLBFGSCentralSquareRoot(box3DLBFGSCentralUnitRoundoff)) // u^(1/4)
+	calls := 0
 	for i := range probe {
-		if 4*(i+1) > budget {
-			return 4 * i, false
+		if calls+4 > budget {
+			return calls, false
 		}
 		xi := probe[i]
 		bar := quarter * box3DLBFGSCentralLarger(1, box3DLBFGSCentralAbs(xi))
+		lower, upper := box3DLBFGSCentralCoordinateRange(i, diffs)
+		if xi+2*bar > upper || xi-2*bar < lower {
+			// At a bound: three probes on the side with room, at h, 2h
+			// and 3h, for f‴ ≈ (f(3h) − 3f(2h) + 3f(h) − f(0))/h³ (the
+			// third forward difference).
+			h := box3DLBFGSCentralOneSide(xi, bar, 3, lower, upper)
+			if h == 0 {
+				continue // fixed by equal bounds
+			}
+			var f [3]float64
+			for k := range f {
+				probe[i], _ = box3DLBFGSCentralProbeStep(xi, float64(k+1)*h, lower, upper)
+				f[k] = Box3D(&probe)
+				scale = box3DLBFGSCentralLarger(scale, box3DLBFGSCentralMagnitude(f[k]))
+			}
+			probe[i] = xi
+			calls += 3
+			if box3DLBFGSCentralFinite(f[0]) && box3DLBFGSCentralFinite(f[1]) && box3DLBFGSCentralFinite(f[2]) {
+				diffs.curvature[i] = box3DLBFGSCentralAbs(f[2]-3*f[1]+3*f[0]-fx) / box3DLBFGSCentralAbs(h*h*h)
+				diffs.second[i] = box3DLBFGSCentralAbs(fx-2*f[0]+f[1]) / (h * h)
+				slope[i] = (-3*fx + 4*f[0] - f[1]) / (2 * h)
+			}
+			continue
+		}
 		var f [4]float64
 		for k, m := range [4]float64{2, 1, -1, -2} {
-			probe[i], _ = box3DLBFGSCentralProbeStep(xi, m*bar)
+			probe[i], _ = box3DLBFGSCentralProbeStep(xi, m*bar, lower, upper)
 			f[k] = Box3D(&probe)
 			scale = box3DLBFGSCentralLarger(scale, box3DLBFGSCentralMagnitude(f[k]))
 		}
 		probe[i] = xi
+		calls += 4
 		if box3DLBFGSCentralFinite(f[0]) && box3DLBFGSCentralFinite(f[1]) && box3DLBFGSCentralFinite(f[2]) && box3DLBFGSCentralFinite(f[3]) {
 			diffs.curvature[i] = box3DLBFGSCentralAbs(f[0]-2*f[1]+2*f[2]-f[3]) / (2 * bar * bar * bar)
 			diffs.second[i] = box3DLBFGSCentralAbs(f[1]-2*fx+f[2]) / (bar * bar)
@@ -429,7 +463,7 @@ func box3DLBFGSCentralCalibrate(x *[3]float64, fx float64, diffs *box3DLBFGSCent
 		diffs.ratio[i] = box3DLBFGSCentralClampBetween(h, 64*box3DLBFGSCentralUnitRoundoff*s, bar) / s
 		diffs.curvature[i] = third
 	}
-	return 4 * len(probe), true
+	return calls, true
 }
 
 // box3DLBFGSCentralAbs returns |v|.
@@ -455,10 +489,48 @@ func box3DLBFGSCentralLarger(a, b float64) float64 {
 	return b
 }
 
-// box3DLBFGSCentralProbeStep returns x_i moved by h, and the step actually representable.
-func box3DLBFGSCentralProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// box3DLBFGSCentralCoordinateRange: without bounds any probe is allowed.
+func box3DLBFGSCentralCoordinateRange(i int, diffs *box3DLBFGSCentralDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// box3DLBFGSCentralOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func box3DLBFGSCentralOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
+}
+
+// box3DLBFGSCentralProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func box3DLBFGSCentralProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := box3DLBFGSCentralClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// box3DLBFGSCentralClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func box3DLBFGSCentralClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
 }
 
 // box3DLBFGSCentralMagnitude is |v| for a finite v and 0 otherwise: a probe that fell
@@ -494,42 +566,85 @@ func box3DLBFGSCentralCubeRoot(v float64) float64 {
 	return math.Cbrt(v)
 }
 
-// box3DLBFGSCentralClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func box3DLBFGSCentralClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
-}
-
 // box3DLBFGSCentralDerivative approximates the gradient by central differences,
 //
 //	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),
 //
 // with the intervals box3DLBFGSCentralCalibrate chose, h_i = ratio_i·max(1, |x_i|)
-// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls; fx is
-// not needed.
-func box3DLBFGSCentralDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *box3DLBFGSCentralDifferences) {
+// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls. Where
+// a bound leaves no room on one side, the three-point endpoint formula on
+// the other side takes its place at the same cost (see parabola); a
+// variable fixed by equal bounds costs nothing and gets 0.
+func box3DLBFGSCentralDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *box3DLBFGSCentralDifferences) int {
 	probe := *x
+	calls := 0
 	for i := range probe {
 		xi := probe[i]
-		h := diffs.ratio[i] * box3DLBFGSCentralLarger(1, box3DLBFGSCentralAbs(xi))
-		up, _ := box3DLBFGSCentralProbeStep(xi, h)
-		down, _ := box3DLBFGSCentralProbeStep(xi, -h)
-		probe[i] = up
-		fUp := Box3D(&probe)
-		probe[i] = down
-		fDown := Box3D(&probe)
-		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
-		probe[i] = xi
+		h, oneSided := box3DLBFGSCentralCentralInterval(x, i, diffs)
+		lower, upper := box3DLBFGSCentralCoordinateRange(i, diffs)
+		switch {
+		case h == 0:
+			g[i] = 0 // fixed by equal bounds
+			continue
+		case oneSided:
+			g[i], _, _ = box3DLBFGSCentralSidedProbes(&probe, i, fx, h, lower, upper) // the three-point endpoint formula
+		default:
+			up, _ := box3DLBFGSCentralProbeStep(xi, h, lower, upper)
+			down, _ := box3DLBFGSCentralProbeStep(xi, -h, lower, upper)
+			probe[i] = up
+			fUp := Box3D(&probe)
+			probe[i] = down
+			fDown := Box3D(&probe)
+			g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+			probe[i] = xi
+		}
+		calls += 2
 	}
+	return calls
+}
+
+// box3DLBFGSCentralCentralInterval is the interval of coordinate i at x, ratio_i·max(1,
+// |x_i|), and whether the box leaves room for probes on both sides; when
+// it does not, the interval is signed towards the side with room for
+// probes at h and 2h, and shortened where the box is narrower than that
+// (see box3DLBFGSCentralOneSide).
+func box3DLBFGSCentralCentralInterval(x *[3]float64, i int, diffs *box3DLBFGSCentralDifferences) (h float64, oneSided bool) {
+	lower, upper := box3DLBFGSCentralCoordinateRange(i, diffs)
+	h = diffs.ratio[i] * box3DLBFGSCentralLarger(1, box3DLBFGSCentralAbs(x[i]))
+	if x[i]+h <= upper && x[i]-h >= lower {
+		return h, false
+	}
+	return box3DLBFGSCentralOneSide(x[i], h, 2, lower, upper), true
+}
+
+// box3DLBFGSCentralSidedProbes evaluates f at x moved along coordinate i by h and by 2h,
+// kept within [lower, upper], and returns the slope and second derivative
+// of the parabola through them and (x, fx) (see parabola), and the larger
+// magnitude of the two values.
+func box3DLBFGSCentralSidedProbes(probe *[3]float64, i int, fx, h, lower, upper float64) (slope, second, size float64) {
+	xi := probe[i]
+	near, a := box3DLBFGSCentralProbeStep(xi, h, lower, upper)
+	far, b := box3DLBFGSCentralProbeStep(xi, 2*h, lower, upper)
+	probe[i] = near
+	fNear := Box3D(probe)
+	probe[i] = far
+	fFar := Box3D(probe)
+	probe[i] = xi
+	slope, second = box3DLBFGSCentralParabola(fx, a, fNear, b, fFar)
+	return slope, second, box3DLBFGSCentralLarger(box3DLBFGSCentralMagnitude(fNear), box3DLBFGSCentralMagnitude(fFar))
+}
+
+// box3DLBFGSCentralParabola returns the first and second derivatives at 0 of the parabola
+// through (0, f0), (a, fa) and (b, fb), for probes on one side of a bound.
+// With b = 2a they are the three-point endpoint formulas
+// f′ ≈ (−3f0 + 4fa − fb)/(2a), error a²|f‴|/3, and
+// f″ ≈ (f0 − 2fa + fb)/a² (Burden & Faires, Numerical Analysis, §4.1
+// and §4.1's second-derivative formulas, from memory); written for unequal
+// a and b, so that the representable steps can be used.
+func box3DLBFGSCentralParabola(f0, a, fa, b, fb float64) (slope, second float64) {
+	slope = -(a+b)/(a*b)*f0 + b/(a*(b-a))*fa - a/(b*(b-a))*fb
+	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
+	return slope, second
 }
 
 // box3DLBFGSCentralDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
@@ -694,13 +809,13 @@ func box3DLBFGSCentralConfirmGradient(x *[3]float64, fx float64, g, e *[3]float6
 		wide.ratio[i] *= 2
 	}
 	var doubled [3]float64
-	box3DLBFGSCentralDerivative(x, fx, g, diffs)
-	box3DLBFGSCentralDerivative(x, fx, &doubled, &wide)
+	calls += box3DLBFGSCentralDerivative(x, fx, g, diffs)
+	calls += box3DLBFGSCentralDerivative(x, fx, &doubled, &wide)
 	box3DLBFGSCentralGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * box3DLBFGSCentralAbs(g[i]-doubled[i])
 	}
-	return calls + 2*box3DLBFGSCentralDerivativeCost, true
+	return calls, true
 }
 
 // box3DLBFGSCentralGradientError bounds each central difference's error by twice its
@@ -710,8 +825,16 @@ func box3DLBFGSCentralConfirmGradient(x *[3]float64, fx float64, g, e *[3]float6
 func box3DLBFGSCentralGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *box3DLBFGSCentralDifferences) {
 	noise := box3DLBFGSCentralNoiseLevel(x, fx, g)
 	for i := range e {
-		h := diffs.ratio[i] * box3DLBFGSCentralLarger(1, box3DLBFGSCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		h, oneSided := box3DLBFGSCentralCentralInterval(x, i, diffs)
+		h = box3DLBFGSCentralAbs(h)
+		switch {
+		case h == 0:
+			e[i] = 0 // fixed by equal bounds
+		case oneSided:
+			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+		default:
+			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		}
 	}
 }
 
@@ -733,6 +856,11 @@ func box3DLBFGSCentralRoundingFloor(x, g, e *[3]float64, diffs *box3DLBFGSCentra
 // calibration, which box3DLBFGSCentralConfirmGradient has just made at x.
 func box3DLBFGSCentralDiagonalCurvature(x, g *[3]float64, diffs *box3DLBFGSCentralDifferences, h *[3]float64) {
 	*h = diffs.second
+}
+
+// box3DLBFGSCentralStationarity measures the gradient itself.
+func box3DLBFGSCentralStationarity(g, e, x *[3]float64, fx float64, b *box3DLBFGSCentralBox) (measure, floor float64) {
+	return box3DLBFGSCentralGradientMeasure(g, e, x, fx)
 }
 
 // box3DLBFGSCentralGradientMeasure is the scale-free measure
@@ -768,6 +896,14 @@ func box3DLBFGSCentralStepWithin(s, x *[3]float64, tol float64) bool {
 	return true
 }
 
+// box3DLBFGSCentralCurvaturePair: without bounds the pair is used as it is.
+func box3DLBFGSCentralCurvaturePair(s, y, x *[3]float64, b *box3DLBFGSCentralBox) {}
+
+// box3DLBFGSCentralSearchDirection is the direction's own.
+func box3DLBFGSCentralSearchDirection(dir *box3DLBFGSCentralDirection, x, g, d *[3]float64, b *box3DLBFGSCentralBox) {
+	dir.compute(g, d)
+}
+
 // box3DLBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func box3DLBFGSCentralTinyStep(x, d *[3]float64, tol float64) float64 {
@@ -795,7 +931,10 @@ func box3DLBFGSCentralTinyStep(x, d *[3]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (box3DLBFGSCentralStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -804,13 +943,17 @@ func box3DLBFGSCentralTinyStep(x, d *[3]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func box3DLBFGSCentralLineSearch(x *[3]float64, fx float64, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *box3DLBFGSCentralDifferences) box3DLBFGSCentralLineResult {
+func box3DLBFGSCentralLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *box3DLBFGSCentralDifferences) box3DLBFGSCentralLineResult {
 	low := box3DLBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high box3DLBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                                 // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend box3DLBFGSCentralRiseTrend // of the trials failing sufficient decrease
+	var trend box3DLBFGSCentralRiseTrend                         // of the trials failing sufficient decrease
+	limit := box3DLBFGSCentralStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < box3DLBFGSCentralStepTrials; trial++ {
 		if bracketed && box3DLBFGSCentralAbs(high.step-low.step) <= tiny {
@@ -820,12 +963,12 @@ func box3DLBFGSCentralLineSearch(x *[3]float64, fx float64, d *[3]float64, slope
 			if low.step == 0 {
 				return box3DLBFGSCentralLineResult{calls: calls, rising: trend.contradicts(), end: box3DLBFGSCentralTinyOrExhausted(box3DLBFGSCentralFinite(high.value))}
 			}
-			return box3DLBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return box3DLBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return box3DLBFGSCentralLineResult{calls: calls, end: box3DLBFGSCentralSearchOutOfBudget}
 		}
-		box3DLBFGSCentralMoveTo(xt, x, t, d)
+		box3DLBFGSCentralTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := box3DLBFGSCentralLinePoint{step: t, value: Box3D(xt)}
 		calls++
 		previous := low
@@ -836,8 +979,7 @@ func box3DLBFGSCentralLineSearch(x *[3]float64, fx float64, d *[3]float64, slope
 			if calls+box3DLBFGSCentralDerivativeCost > budget {
 				return box3DLBFGSCentralLineResult{calls: calls, end: box3DLBFGSCentralSearchOutOfBudget}
 			}
-			box3DLBFGSCentralDerivative(xt, current.value, gt, diffs)
-			calls += box3DLBFGSCentralDerivativeCost
+			calls += box3DLBFGSCentralDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = box3DLBFGSCentralDot(gt, d), true
 			switch {
 			case !box3DLBFGSCentralFinite(current.slope):
@@ -848,18 +990,22 @@ func box3DLBFGSCentralLineSearch(x *[3]float64, fx float64, d *[3]float64, slope
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return box3DLBFGSCentralLineResult{step: t, value: current.value, calls: calls, gradient: true, end: box3DLBFGSCentralSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = box3DLBFGSCentralZoomTrial(&low, &high)
-		} else {
-			t = box3DLBFGSCentralExpandTrial(&previous, &current)
+		} else if t = box3DLBFGSCentralExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return box3DLBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return box3DLBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return box3DLBFGSCentralLineResult{calls: calls, rising: trend.contradicts(), end: box3DLBFGSCentralSearchExhausted}
 }
@@ -946,6 +1092,11 @@ func box3DLBFGSCentralFaithfulStep(x, xt, d *[3]float64, t float64) bool {
 	return true
 }
 
+// box3DLBFGSCentralStepCap: without bounds a step may be as long as the search wants.
+func box3DLBFGSCentralStepCap(x, d *[3]float64, tiny float64, b *box3DLBFGSCentralBox) float64 {
+	return math.Inf(1)
+}
+
 // box3DLBFGSCentralTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -970,10 +1121,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func box3DLBFGSCentralAcceptLow(x, d *[3]float64, low *box3DLBFGSCentralLinePoint, lowGradient *[3]float64, calls int, xt, gt *[3]float64) box3DLBFGSCentralLineResult {
-	box3DLBFGSCentralMoveTo(xt, x, low.step, d)
+func box3DLBFGSCentralAcceptLow(x, d *[3]float64, low *box3DLBFGSCentralLinePoint, lowGradient *[3]float64, calls int, xt, gt *[3]float64, diffs *box3DLBFGSCentralDifferences) box3DLBFGSCentralLineResult {
+	box3DLBFGSCentralTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return box3DLBFGSCentralLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: box3DLBFGSCentralSearchAccepted}
+}
+
+// box3DLBFGSCentralTrialPoint is x + t·d.
+func box3DLBFGSCentralTrialPoint(out, x *[3]float64, t float64, d *[3]float64, b *box3DLBFGSCentralBox) {
+	box3DLBFGSCentralMoveTo(out, x, t, d)
 }
 
 // box3DLBFGSCentralMoveTo sets out = x + t·d.

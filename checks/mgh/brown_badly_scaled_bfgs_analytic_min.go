@@ -88,6 +88,9 @@ func BrownBadlyScaledBFGSAnalyticDefaultLimits() BrownBadlyScaledBFGSAnalyticLim
 	}
 }
 
+// brownBadlyScaledBFGSAnalyticBox is empty: mgh.toml sets no bounds on BrownBadlyScaledBFGSAnalytic.
+type brownBadlyScaledBFGSAnalyticBox struct{}
+
 // BrownBadlyScaledBFGSAnalytic minimizes BrownBadlyScaled from x0, as mgh.toml specifies.
 //
 // Direction bfgs: BFGS quasi-Newton with a dense inverse-Hessian approximation (dim² numbers).
@@ -105,7 +108,7 @@ func BrownBadlyScaledBFGSAnalytic(x0 [2]float64) BrownBadlyScaledBFGSAnalyticRes
 
 // BrownBadlyScaledBFGSAnalyticWithLimits is BrownBadlyScaledBFGSAnalytic with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func BrownBadlyScaledBFGSAnalyticWithLimits(x0 [2]float64, limits BrownBadlyScaledBFGSAnalyticLimits) BrownBadlyScaledBFGSAnalyticResult {
-	out := brownBadlyScaledBFGSAnalyticMinimize(x0, limits)
+	out := brownBadlyScaledBFGSAnalyticMinimize(x0, limits, brownBadlyScaledBFGSAnalyticBox{})
 	return BrownBadlyScaledBFGSAnalyticResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func brownBadlyScaledBFGSAnalyticMinimize(x0 [2]float64, lim BrownBadlyScaledBFGSAnalyticLimits) brownBadlyScaledBFGSAnalyticOutcome {
-	out := brownBadlyScaledBFGSAnalyticOutcome{x: x0, status: BrownBadlyScaledBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
+func brownBadlyScaledBFGSAnalyticMinimize(x0 [2]float64, lim BrownBadlyScaledBFGSAnalyticLimits, bounds brownBadlyScaledBFGSAnalyticBox) brownBadlyScaledBFGSAnalyticOutcome {
+	x := x0
+	brownBadlyScaledBFGSAnalyticEnterBox(&x, &bounds)
+	out := brownBadlyScaledBFGSAnalyticOutcome{x: x, status: BrownBadlyScaledBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := BrownBadlyScaled(&x)
 	out.f, out.evaluations = fx, 1
 	if !brownBadlyScaledBFGSAnalyticFinite(fx) || !brownBadlyScaledBFGSAnalyticFiniteVec(&x) {
 		out.status = BrownBadlyScaledBFGSAnalyticNonFiniteStart
 		return out
 	}
-	var diffs brownBadlyScaledBFGSAnalyticDifferences
+	diffs := brownBadlyScaledBFGSAnalyticDifferences{bounds: bounds}
 	calls, ok := brownBadlyScaledBFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+brownBadlyScaledBFGSAnalyticDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [2]float64
-	brownBadlyScaledBFGSAnalyticDerivative(&x, fx, &g, &diffs)
-	out.evaluations += brownBadlyScaledBFGSAnalyticDerivativeCost
+	out.evaluations += brownBadlyScaledBFGSAnalyticDerivative(&x, fx, &g, &diffs)
 
 	if !brownBadlyScaledBFGSAnalyticFiniteVec(&g) {
 		out.status = BrownBadlyScaledBFGSAnalyticNonFiniteGradient
@@ -211,7 +214,7 @@ func brownBadlyScaledBFGSAnalyticMinimize(x0 [2]float64, lim BrownBadlyScaledBFG
 		case !confirmed:
 			brownBadlyScaledBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := brownBadlyScaledBFGSAnalyticGradientMeasure(&g, &e, &x, fx)
+		measure, floor := brownBadlyScaledBFGSAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, brownBadlyScaledBFGSAnalyticLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func brownBadlyScaledBFGSAnalyticMinimize(x0 [2]float64, lim BrownBadlyScaledBFG
 			if rises >= 8 {
 				return best.ending(BrownBadlyScaledBFGSAnalyticDiverged, out.iterations, out.evaluations)
 			}
+			brownBadlyScaledBFGSAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(BrownBadlyScaledBFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		brownBadlyScaledBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := brownBadlyScaledBFGSAnalyticDot(&g, &d)
 		if !(now < 0) || !brownBadlyScaledBFGSAnalyticFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			brownBadlyScaledBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = brownBadlyScaledBFGSAnalyticDot(&g, &d)
 		}
 		first := float64(brownBadlyScaledBFGSAnalyticStepInitial)
@@ -267,7 +271,7 @@ func brownBadlyScaledBFGSAnalyticMinimize(x0 [2]float64, lim BrownBadlyScaledBFG
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := brownBadlyScaledBFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := brownBadlyScaledBFGSAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := brownBadlyScaledBFGSAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case brownBadlyScaledBFGSAnalyticSearchOutOfBudget:
@@ -303,8 +307,7 @@ func brownBadlyScaledBFGSAnalyticMinimize(x0 [2]float64, lim BrownBadlyScaledBFG
 				}
 				return best.ending(BrownBadlyScaledBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			brownBadlyScaledBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += brownBadlyScaledBFGSAnalyticDerivativeCost
+			out.evaluations += brownBadlyScaledBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		brownBadlyScaledBFGSAnalyticDifference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o brownBadlyScaledBFGSAnalyticOutcome) ending(end BrownBadlyScaledBFGSAnal
 	return o
 }
 
+// brownBadlyScaledBFGSAnalyticEnterBox: without bounds every start is inside.
+func brownBadlyScaledBFGSAnalyticEnterBox(x *[2]float64, b *brownBadlyScaledBFGSAnalyticBox) {}
+
 // brownBadlyScaledBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func brownBadlyScaledBFGSAnalyticFiniteVec(x *[2]float64) bool {
 	return true
 }
 
-// brownBadlyScaledBFGSAnalyticDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// brownBadlyScaledBFGSAnalyticDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type brownBadlyScaledBFGSAnalyticDifferences struct {
 	ratio     [2]float64
 	curvature [2]float64
 	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see brownBadlyScaledBFGSAnalyticRoundingFloor)
+	bounds    brownBadlyScaledBFGSAnalyticBox
 }
 
 // brownBadlyScaledBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
@@ -384,8 +392,9 @@ func brownBadlyScaledBFGSAnalyticCalibrate(x *[2]float64, fx float64, diffs *bro
 }
 
 // brownBadlyScaledBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func brownBadlyScaledBFGSAnalyticDerivative(x *[2]float64, fx float64, g *[2]float64, diffs *brownBadlyScaledBFGSAnalyticDifferences) {
+func brownBadlyScaledBFGSAnalyticDerivative(x *[2]float64, fx float64, g *[2]float64, diffs *brownBadlyScaledBFGSAnalyticDifferences) int {
 	BrownBadlyScaledGrad(x, g)
+	return 0
 }
 
 // brownBadlyScaledBFGSAnalyticDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
@@ -525,13 +534,13 @@ func brownBadlyScaledBFGSAnalyticConfirmGradient(x *[2]float64, fx float64, g, e
 		wide.ratio[i] *= 2
 	}
 	var doubled [2]float64
-	brownBadlyScaledBFGSAnalyticDerivative(x, fx, g, diffs)
-	brownBadlyScaledBFGSAnalyticDerivative(x, fx, &doubled, &wide)
+	calls += brownBadlyScaledBFGSAnalyticDerivative(x, fx, g, diffs)
+	calls += brownBadlyScaledBFGSAnalyticDerivative(x, fx, &doubled, &wide)
 	brownBadlyScaledBFGSAnalyticGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * brownBadlyScaledBFGSAnalyticAbs(g[i]-doubled[i])
 	}
-	return calls + 2*brownBadlyScaledBFGSAnalyticDerivativeCost, true
+	return calls, true
 }
 
 // brownBadlyScaledBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
@@ -573,18 +582,60 @@ func brownBadlyScaledBFGSAnalyticDiagonalCurvature(x, g *[2]float64, diffs *brow
 	var moved [2]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := brownBadlyScaledBFGSAnalyticProbeStep(xi, brownBadlyScaledBFGSAnalyticSquareRoot(brownBadlyScaledBFGSAnalyticUnitRoundoff)*brownBadlyScaledBFGSAnalyticLarger(1, brownBadlyScaledBFGSAnalyticAbs(xi)))
-		probe[i] = up
-		BrownBadlyScaledGrad(&probe, &moved)
-		h[i] = brownBadlyScaledBFGSAnalyticAbs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := brownBadlyScaledBFGSAnalyticCoordinateRange(i, diffs)
+		up, delta := brownBadlyScaledBFGSAnalyticProbeStep(xi, brownBadlyScaledBFGSAnalyticOneSide(xi, brownBadlyScaledBFGSAnalyticSquareRoot(brownBadlyScaledBFGSAnalyticUnitRoundoff)*brownBadlyScaledBFGSAnalyticLarger(1, brownBadlyScaledBFGSAnalyticAbs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			BrownBadlyScaledGrad(&probe, &moved)
+			h[i] = brownBadlyScaledBFGSAnalyticAbs(moved[i]-g[i]) / brownBadlyScaledBFGSAnalyticAbs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// brownBadlyScaledBFGSAnalyticProbeStep returns x_i moved by h, and the step actually representable.
-func brownBadlyScaledBFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// brownBadlyScaledBFGSAnalyticCoordinateRange: without bounds any probe is allowed.
+func brownBadlyScaledBFGSAnalyticCoordinateRange(i int, diffs *brownBadlyScaledBFGSAnalyticDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// brownBadlyScaledBFGSAnalyticProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func brownBadlyScaledBFGSAnalyticProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := brownBadlyScaledBFGSAnalyticClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// brownBadlyScaledBFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func brownBadlyScaledBFGSAnalyticClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// brownBadlyScaledBFGSAnalyticOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func brownBadlyScaledBFGSAnalyticOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // brownBadlyScaledBFGSAnalyticSquareRoot returns √v.
@@ -600,6 +651,11 @@ func brownBadlyScaledBFGSAnalyticLarger(a, b float64) float64 {
 		return a
 	}
 	return b
+}
+
+// brownBadlyScaledBFGSAnalyticStationarity measures the gradient itself.
+func brownBadlyScaledBFGSAnalyticStationarity(g, e, x *[2]float64, fx float64, b *brownBadlyScaledBFGSAnalyticBox) (measure, floor float64) {
+	return brownBadlyScaledBFGSAnalyticGradientMeasure(g, e, x, fx)
 }
 
 // brownBadlyScaledBFGSAnalyticGradientMeasure is the scale-free measure
@@ -635,6 +691,15 @@ func brownBadlyScaledBFGSAnalyticStepWithin(s, x *[2]float64, tol float64) bool 
 	return true
 }
 
+// brownBadlyScaledBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
+func brownBadlyScaledBFGSAnalyticCurvaturePair(s, y, x *[2]float64, b *brownBadlyScaledBFGSAnalyticBox) {
+}
+
+// brownBadlyScaledBFGSAnalyticSearchDirection is the direction's own.
+func brownBadlyScaledBFGSAnalyticSearchDirection(dir *brownBadlyScaledBFGSAnalyticDirection, x, g, d *[2]float64, b *brownBadlyScaledBFGSAnalyticBox) {
+	dir.compute(g, d)
+}
+
 // brownBadlyScaledBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func brownBadlyScaledBFGSAnalyticTinyStep(x, d *[2]float64, tol float64) float64 {
@@ -662,7 +727,10 @@ func brownBadlyScaledBFGSAnalyticTinyStep(x, d *[2]float64, tol float64) float64
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (brownBadlyScaledBFGSAnalyticStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -671,13 +739,17 @@ func brownBadlyScaledBFGSAnalyticTinyStep(x, d *[2]float64, tol float64) float64
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func brownBadlyScaledBFGSAnalyticLineSearch(x *[2]float64, fx float64, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *brownBadlyScaledBFGSAnalyticDifferences) brownBadlyScaledBFGSAnalyticLineResult {
+func brownBadlyScaledBFGSAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *brownBadlyScaledBFGSAnalyticDifferences) brownBadlyScaledBFGSAnalyticLineResult {
 	low := brownBadlyScaledBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high brownBadlyScaledBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                            // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend brownBadlyScaledBFGSAnalyticRiseTrend // of the trials failing sufficient decrease
+	var trend brownBadlyScaledBFGSAnalyticRiseTrend                         // of the trials failing sufficient decrease
+	limit := brownBadlyScaledBFGSAnalyticStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < brownBadlyScaledBFGSAnalyticStepTrials; trial++ {
 		if bracketed && brownBadlyScaledBFGSAnalyticAbs(high.step-low.step) <= tiny {
@@ -687,12 +759,12 @@ func brownBadlyScaledBFGSAnalyticLineSearch(x *[2]float64, fx float64, d *[2]flo
 			if low.step == 0 {
 				return brownBadlyScaledBFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: brownBadlyScaledBFGSAnalyticTinyOrExhausted(brownBadlyScaledBFGSAnalyticFinite(high.value))}
 			}
-			return brownBadlyScaledBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return brownBadlyScaledBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return brownBadlyScaledBFGSAnalyticLineResult{calls: calls, end: brownBadlyScaledBFGSAnalyticSearchOutOfBudget}
 		}
-		brownBadlyScaledBFGSAnalyticMoveTo(xt, x, t, d)
+		brownBadlyScaledBFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := brownBadlyScaledBFGSAnalyticLinePoint{step: t, value: BrownBadlyScaled(xt)}
 		calls++
 		previous := low
@@ -703,8 +775,7 @@ func brownBadlyScaledBFGSAnalyticLineSearch(x *[2]float64, fx float64, d *[2]flo
 			if calls+brownBadlyScaledBFGSAnalyticDerivativeCost > budget {
 				return brownBadlyScaledBFGSAnalyticLineResult{calls: calls, end: brownBadlyScaledBFGSAnalyticSearchOutOfBudget}
 			}
-			brownBadlyScaledBFGSAnalyticDerivative(xt, current.value, gt, diffs)
-			calls += brownBadlyScaledBFGSAnalyticDerivativeCost
+			calls += brownBadlyScaledBFGSAnalyticDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = brownBadlyScaledBFGSAnalyticDot(gt, d), true
 			switch {
 			case !brownBadlyScaledBFGSAnalyticFinite(current.slope):
@@ -715,18 +786,22 @@ func brownBadlyScaledBFGSAnalyticLineSearch(x *[2]float64, fx float64, d *[2]flo
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return brownBadlyScaledBFGSAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: brownBadlyScaledBFGSAnalyticSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = brownBadlyScaledBFGSAnalyticZoomTrial(&low, &high)
-		} else {
-			t = brownBadlyScaledBFGSAnalyticExpandTrial(&previous, &current)
+		} else if t = brownBadlyScaledBFGSAnalyticExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return brownBadlyScaledBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return brownBadlyScaledBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return brownBadlyScaledBFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: brownBadlyScaledBFGSAnalyticSearchExhausted}
 }
@@ -813,6 +888,11 @@ func brownBadlyScaledBFGSAnalyticFaithfulStep(x, xt, d *[2]float64, t float64) b
 	return true
 }
 
+// brownBadlyScaledBFGSAnalyticStepCap: without bounds a step may be as long as the search wants.
+func brownBadlyScaledBFGSAnalyticStepCap(x, d *[2]float64, tiny float64, b *brownBadlyScaledBFGSAnalyticBox) float64 {
+	return math.Inf(1)
+}
+
 // brownBadlyScaledBFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -837,10 +917,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func brownBadlyScaledBFGSAnalyticAcceptLow(x, d *[2]float64, low *brownBadlyScaledBFGSAnalyticLinePoint, lowGradient *[2]float64, calls int, xt, gt *[2]float64) brownBadlyScaledBFGSAnalyticLineResult {
-	brownBadlyScaledBFGSAnalyticMoveTo(xt, x, low.step, d)
+func brownBadlyScaledBFGSAnalyticAcceptLow(x, d *[2]float64, low *brownBadlyScaledBFGSAnalyticLinePoint, lowGradient *[2]float64, calls int, xt, gt *[2]float64, diffs *brownBadlyScaledBFGSAnalyticDifferences) brownBadlyScaledBFGSAnalyticLineResult {
+	brownBadlyScaledBFGSAnalyticTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return brownBadlyScaledBFGSAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: brownBadlyScaledBFGSAnalyticSearchAccepted}
+}
+
+// brownBadlyScaledBFGSAnalyticTrialPoint is x + t·d.
+func brownBadlyScaledBFGSAnalyticTrialPoint(out, x *[2]float64, t float64, d *[2]float64, b *brownBadlyScaledBFGSAnalyticBox) {
+	brownBadlyScaledBFGSAnalyticMoveTo(out, x, t, d)
 }
 
 // brownBadlyScaledBFGSAnalyticMoveTo sets out = x + t·d.
@@ -895,21 +980,6 @@ func brownBadlyScaledBFGSAnalyticModelMinimizer(a, b *brownBadlyScaledBFGSAnalyt
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, brownBadlyScaledBFGSAnalyticFinite(t)
-}
-
-// brownBadlyScaledBFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func brownBadlyScaledBFGSAnalyticClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // brownBadlyScaledBFGSAnalyticExpandTrial picks a larger trial after current met sufficient decrease

@@ -88,6 +88,9 @@ func BrownBadlyScaledBFGSCentralDefaultLimits() BrownBadlyScaledBFGSCentralLimit
 	}
 }
 
+// brownBadlyScaledBFGSCentralBox is empty: mgh.toml sets no bounds on BrownBadlyScaledBFGSCentral.
+type brownBadlyScaledBFGSCentralBox struct{}
+
 // BrownBadlyScaledBFGSCentral minimizes BrownBadlyScaled from x0, as mgh.toml specifies.
 //
 // Direction bfgs: BFGS quasi-Newton with a dense inverse-Hessian approximation (dim² numbers).
@@ -105,7 +108,7 @@ func BrownBadlyScaledBFGSCentral(x0 [2]float64) BrownBadlyScaledBFGSCentralResul
 
 // BrownBadlyScaledBFGSCentralWithLimits is BrownBadlyScaledBFGSCentral with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func BrownBadlyScaledBFGSCentralWithLimits(x0 [2]float64, limits BrownBadlyScaledBFGSCentralLimits) BrownBadlyScaledBFGSCentralResult {
-	out := brownBadlyScaledBFGSCentralMinimize(x0, limits)
+	out := brownBadlyScaledBFGSCentralMinimize(x0, limits, brownBadlyScaledBFGSCentralBox{})
 	return BrownBadlyScaledBFGSCentralResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func brownBadlyScaledBFGSCentralMinimize(x0 [2]float64, lim BrownBadlyScaledBFGSCentralLimits) brownBadlyScaledBFGSCentralOutcome {
-	out := brownBadlyScaledBFGSCentralOutcome{x: x0, status: BrownBadlyScaledBFGSCentralOutOfEvaluations, gradient: math.NaN()}
+func brownBadlyScaledBFGSCentralMinimize(x0 [2]float64, lim BrownBadlyScaledBFGSCentralLimits, bounds brownBadlyScaledBFGSCentralBox) brownBadlyScaledBFGSCentralOutcome {
+	x := x0
+	brownBadlyScaledBFGSCentralEnterBox(&x, &bounds)
+	out := brownBadlyScaledBFGSCentralOutcome{x: x, status: BrownBadlyScaledBFGSCentralOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := BrownBadlyScaled(&x)
 	out.f, out.evaluations = fx, 1
 	if !brownBadlyScaledBFGSCentralFinite(fx) || !brownBadlyScaledBFGSCentralFiniteVec(&x) {
 		out.status = BrownBadlyScaledBFGSCentralNonFiniteStart
 		return out
 	}
-	var diffs brownBadlyScaledBFGSCentralDifferences
+	diffs := brownBadlyScaledBFGSCentralDifferences{bounds: bounds}
 	calls, ok := brownBadlyScaledBFGSCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+brownBadlyScaledBFGSCentralDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [2]float64
-	brownBadlyScaledBFGSCentralDerivative(&x, fx, &g, &diffs)
-	out.evaluations += brownBadlyScaledBFGSCentralDerivativeCost
+	out.evaluations += brownBadlyScaledBFGSCentralDerivative(&x, fx, &g, &diffs)
 
 	if !brownBadlyScaledBFGSCentralFiniteVec(&g) {
 		out.status = BrownBadlyScaledBFGSCentralNonFiniteGradient
@@ -211,7 +214,7 @@ func brownBadlyScaledBFGSCentralMinimize(x0 [2]float64, lim BrownBadlyScaledBFGS
 		case !confirmed:
 			brownBadlyScaledBFGSCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := brownBadlyScaledBFGSCentralGradientMeasure(&g, &e, &x, fx)
+		measure, floor := brownBadlyScaledBFGSCentralStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, brownBadlyScaledBFGSCentralLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func brownBadlyScaledBFGSCentralMinimize(x0 [2]float64, lim BrownBadlyScaledBFGS
 			if rises >= 8 {
 				return best.ending(BrownBadlyScaledBFGSCentralDiverged, out.iterations, out.evaluations)
 			}
+			brownBadlyScaledBFGSCentralCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(BrownBadlyScaledBFGSCentralOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		brownBadlyScaledBFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := brownBadlyScaledBFGSCentralDot(&g, &d)
 		if !(now < 0) || !brownBadlyScaledBFGSCentralFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			brownBadlyScaledBFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = brownBadlyScaledBFGSCentralDot(&g, &d)
 		}
 		first := float64(brownBadlyScaledBFGSCentralStepInitial)
@@ -267,7 +271,7 @@ func brownBadlyScaledBFGSCentralMinimize(x0 [2]float64, lim BrownBadlyScaledBFGS
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := brownBadlyScaledBFGSCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := brownBadlyScaledBFGSCentralLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := brownBadlyScaledBFGSCentralLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case brownBadlyScaledBFGSCentralSearchOutOfBudget:
@@ -303,8 +307,7 @@ func brownBadlyScaledBFGSCentralMinimize(x0 [2]float64, lim BrownBadlyScaledBFGS
 				}
 				return best.ending(BrownBadlyScaledBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			brownBadlyScaledBFGSCentralDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += brownBadlyScaledBFGSCentralDerivativeCost
+			out.evaluations += brownBadlyScaledBFGSCentralDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		brownBadlyScaledBFGSCentralDifference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o brownBadlyScaledBFGSCentralOutcome) ending(end BrownBadlyScaledBFGSCentr
 	return o
 }
 
+// brownBadlyScaledBFGSCentralEnterBox: without bounds every start is inside.
+func brownBadlyScaledBFGSCentralEnterBox(x *[2]float64, b *brownBadlyScaledBFGSCentralBox) {}
+
 // brownBadlyScaledBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func brownBadlyScaledBFGSCentralFiniteVec(x *[2]float64) bool {
 	return true
 }
 
-// brownBadlyScaledBFGSCentralDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// brownBadlyScaledBFGSCentralDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type brownBadlyScaledBFGSCentralDifferences struct {
 	ratio     [2]float64
 	curvature [2]float64
 	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see brownBadlyScaledBFGSCentralRoundingFloor)
+	bounds    brownBadlyScaledBFGSCentralBox
 }
 
 // brownBadlyScaledBFGSCentralCalibrate chooses each central-difference interval from the
@@ -397,19 +405,45 @@ func brownBadlyScaledBFGSCentralCalibrate(x *[2]float64, fx float64, diffs *brow
 	var slope [2]float64
 	scale := brownBadlyScaledBFGSCentralAbs(fx)
 	quarter := brownBadlyScaledBFGSCentralSquareRoot(brownBadlyScaledBFGSCentralSquareRoot(brownBadlyScaledBFGSCentralUnitRoundoff)) // u^(1/4)
+	calls := 0
 	for i := range probe {
-		if 4*(i+1) > budget {
-			return 4 * i, false
+		if calls+4 > budget {
+			return calls, false
 		}
 		xi := probe[i]
 		bar := quarter * brownBadlyScaledBFGSCentralLarger(1, brownBadlyScaledBFGSCentralAbs(xi))
+		lower, upper := brownBadlyScaledBFGSCentralCoordinateRange(i, diffs)
+		if xi+2*bar > upper || xi-2*bar < lower {
+			// At a bound: three probes on the side with room, at h, 2h
+			// and 3h, for f‴ ≈ (f(3h) − 3f(2h) + 3f(h) − f(0))/h³ (the
+			// third forward difference).
+			h := brownBadlyScaledBFGSCentralOneSide(xi, bar, 3, lower, upper)
+			if h == 0 {
+				continue // fixed by equal bounds
+			}
+			var f [3]float64
+			for k := range f {
+				probe[i], _ = brownBadlyScaledBFGSCentralProbeStep(xi, float64(k+1)*h, lower, upper)
+				f[k] = BrownBadlyScaled(&probe)
+				scale = brownBadlyScaledBFGSCentralLarger(scale, brownBadlyScaledBFGSCentralMagnitude(f[k]))
+			}
+			probe[i] = xi
+			calls += 3
+			if brownBadlyScaledBFGSCentralFinite(f[0]) && brownBadlyScaledBFGSCentralFinite(f[1]) && brownBadlyScaledBFGSCentralFinite(f[2]) {
+				diffs.curvature[i] = brownBadlyScaledBFGSCentralAbs(f[2]-3*f[1]+3*f[0]-fx) / brownBadlyScaledBFGSCentralAbs(h*h*h)
+				diffs.second[i] = brownBadlyScaledBFGSCentralAbs(fx-2*f[0]+f[1]) / (h * h)
+				slope[i] = (-3*fx + 4*f[0] - f[1]) / (2 * h)
+			}
+			continue
+		}
 		var f [4]float64
 		for k, m := range [4]float64{2, 1, -1, -2} {
-			probe[i], _ = brownBadlyScaledBFGSCentralProbeStep(xi, m*bar)
+			probe[i], _ = brownBadlyScaledBFGSCentralProbeStep(xi, m*bar, lower, upper)
 			f[k] = BrownBadlyScaled(&probe)
 			scale = brownBadlyScaledBFGSCentralLarger(scale, brownBadlyScaledBFGSCentralMagnitude(f[k]))
 		}
 		probe[i] = xi
+		calls += 4
 		if brownBadlyScaledBFGSCentralFinite(f[0]) && brownBadlyScaledBFGSCentralFinite(f[1]) && brownBadlyScaledBFGSCentralFinite(f[2]) && brownBadlyScaledBFGSCentralFinite(f[3]) {
 			diffs.curvature[i] = brownBadlyScaledBFGSCentralAbs(f[0]-2*f[1]+2*f[2]-f[3]) / (2 * bar * bar * bar)
 			diffs.second[i] = brownBadlyScaledBFGSCentralAbs(f[1]-2*fx+f[2]) / (bar * bar)
@@ -428,7 +462,7 @@ func brownBadlyScaledBFGSCentralCalibrate(x *[2]float64, fx float64, diffs *brow
 		diffs.ratio[i] = brownBadlyScaledBFGSCentralClampBetween(h, 64*brownBadlyScaledBFGSCentralUnitRoundoff*s, bar) / s
 		diffs.curvature[i] = third
 	}
-	return 4 * len(probe), true
+	return calls, true
 }
 
 // brownBadlyScaledBFGSCentralAbs returns |v|.
@@ -454,10 +488,48 @@ func brownBadlyScaledBFGSCentralLarger(a, b float64) float64 {
 	return b
 }
 
-// brownBadlyScaledBFGSCentralProbeStep returns x_i moved by h, and the step actually representable.
-func brownBadlyScaledBFGSCentralProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// brownBadlyScaledBFGSCentralCoordinateRange: without bounds any probe is allowed.
+func brownBadlyScaledBFGSCentralCoordinateRange(i int, diffs *brownBadlyScaledBFGSCentralDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// brownBadlyScaledBFGSCentralOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func brownBadlyScaledBFGSCentralOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
+}
+
+// brownBadlyScaledBFGSCentralProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func brownBadlyScaledBFGSCentralProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := brownBadlyScaledBFGSCentralClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// brownBadlyScaledBFGSCentralClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func brownBadlyScaledBFGSCentralClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
 }
 
 // brownBadlyScaledBFGSCentralMagnitude is |v| for a finite v and 0 otherwise: a probe that fell
@@ -493,42 +565,85 @@ func brownBadlyScaledBFGSCentralCubeRoot(v float64) float64 {
 	return math.Cbrt(v)
 }
 
-// brownBadlyScaledBFGSCentralClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func brownBadlyScaledBFGSCentralClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
-}
-
 // brownBadlyScaledBFGSCentralDerivative approximates the gradient by central differences,
 //
 //	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),
 //
 // with the intervals brownBadlyScaledBFGSCentralCalibrate chose, h_i = ratio_i·max(1, |x_i|)
-// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls; fx is
-// not needed.
-func brownBadlyScaledBFGSCentralDerivative(x *[2]float64, fx float64, g *[2]float64, diffs *brownBadlyScaledBFGSCentralDifferences) {
+// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls. Where
+// a bound leaves no room on one side, the three-point endpoint formula on
+// the other side takes its place at the same cost (see parabola); a
+// variable fixed by equal bounds costs nothing and gets 0.
+func brownBadlyScaledBFGSCentralDerivative(x *[2]float64, fx float64, g *[2]float64, diffs *brownBadlyScaledBFGSCentralDifferences) int {
 	probe := *x
+	calls := 0
 	for i := range probe {
 		xi := probe[i]
-		h := diffs.ratio[i] * brownBadlyScaledBFGSCentralLarger(1, brownBadlyScaledBFGSCentralAbs(xi))
-		up, _ := brownBadlyScaledBFGSCentralProbeStep(xi, h)
-		down, _ := brownBadlyScaledBFGSCentralProbeStep(xi, -h)
-		probe[i] = up
-		fUp := BrownBadlyScaled(&probe)
-		probe[i] = down
-		fDown := BrownBadlyScaled(&probe)
-		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
-		probe[i] = xi
+		h, oneSided := brownBadlyScaledBFGSCentralCentralInterval(x, i, diffs)
+		lower, upper := brownBadlyScaledBFGSCentralCoordinateRange(i, diffs)
+		switch {
+		case h == 0:
+			g[i] = 0 // fixed by equal bounds
+			continue
+		case oneSided:
+			g[i], _, _ = brownBadlyScaledBFGSCentralSidedProbes(&probe, i, fx, h, lower, upper) // the three-point endpoint formula
+		default:
+			up, _ := brownBadlyScaledBFGSCentralProbeStep(xi, h, lower, upper)
+			down, _ := brownBadlyScaledBFGSCentralProbeStep(xi, -h, lower, upper)
+			probe[i] = up
+			fUp := BrownBadlyScaled(&probe)
+			probe[i] = down
+			fDown := BrownBadlyScaled(&probe)
+			g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+			probe[i] = xi
+		}
+		calls += 2
 	}
+	return calls
+}
+
+// brownBadlyScaledBFGSCentralCentralInterval is the interval of coordinate i at x, ratio_i·max(1,
+// |x_i|), and whether the box leaves room for probes on both sides; when
+// it does not, the interval is signed towards the side with room for
+// probes at h and 2h, and shortened where the box is narrower than that
+// (see brownBadlyScaledBFGSCentralOneSide).
+func brownBadlyScaledBFGSCentralCentralInterval(x *[2]float64, i int, diffs *brownBadlyScaledBFGSCentralDifferences) (h float64, oneSided bool) {
+	lower, upper := brownBadlyScaledBFGSCentralCoordinateRange(i, diffs)
+	h = diffs.ratio[i] * brownBadlyScaledBFGSCentralLarger(1, brownBadlyScaledBFGSCentralAbs(x[i]))
+	if x[i]+h <= upper && x[i]-h >= lower {
+		return h, false
+	}
+	return brownBadlyScaledBFGSCentralOneSide(x[i], h, 2, lower, upper), true
+}
+
+// brownBadlyScaledBFGSCentralSidedProbes evaluates f at x moved along coordinate i by h and by 2h,
+// kept within [lower, upper], and returns the slope and second derivative
+// of the parabola through them and (x, fx) (see parabola), and the larger
+// magnitude of the two values.
+func brownBadlyScaledBFGSCentralSidedProbes(probe *[2]float64, i int, fx, h, lower, upper float64) (slope, second, size float64) {
+	xi := probe[i]
+	near, a := brownBadlyScaledBFGSCentralProbeStep(xi, h, lower, upper)
+	far, b := brownBadlyScaledBFGSCentralProbeStep(xi, 2*h, lower, upper)
+	probe[i] = near
+	fNear := BrownBadlyScaled(probe)
+	probe[i] = far
+	fFar := BrownBadlyScaled(probe)
+	probe[i] = xi
+	slope, second = brownBadlyScaledBFGSCentralParabola(fx, a, fNear, b, fFar)
+	return slope, second, brownBadlyScaledBFGSCentralLarger(brownBadlyScaledBFGSCentralMagnitude(fNear), brownBadlyScaledBFGSCentralMagnitude(fFar))
+}
+
+// brownBadlyScaledBFGSCentralParabola returns the first and second derivatives at 0 of the parabola
+// through (0, f0), (a, fa) and (b, fb), for probes on one side of a bound.
+// With b = 2a they are the three-point endpoint formulas
+// f′ ≈ (−3f0 + 4fa − fb)/(2a), error a²|f‴|/3, and
+// f″ ≈ (f0 − 2fa + fb)/a² (Burden & Faires, Numerical Analysis, §4.1
+// and §4.1's second-derivative formulas, from memory); written for unequal
+// a and b, so that the representable steps can be used.
+func brownBadlyScaledBFGSCentralParabola(f0, a, fa, b, fb float64) (slope, second float64) {
+	slope = -(a+b)/(a*b)*f0 + b/(a*(b-a))*fa - a/(b*(b-a))*fb
+	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
+	return slope, second
 }
 
 // brownBadlyScaledBFGSCentralDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
@@ -668,13 +783,13 @@ func brownBadlyScaledBFGSCentralConfirmGradient(x *[2]float64, fx float64, g, e 
 		wide.ratio[i] *= 2
 	}
 	var doubled [2]float64
-	brownBadlyScaledBFGSCentralDerivative(x, fx, g, diffs)
-	brownBadlyScaledBFGSCentralDerivative(x, fx, &doubled, &wide)
+	calls += brownBadlyScaledBFGSCentralDerivative(x, fx, g, diffs)
+	calls += brownBadlyScaledBFGSCentralDerivative(x, fx, &doubled, &wide)
 	brownBadlyScaledBFGSCentralGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * brownBadlyScaledBFGSCentralAbs(g[i]-doubled[i])
 	}
-	return calls + 2*brownBadlyScaledBFGSCentralDerivativeCost, true
+	return calls, true
 }
 
 // brownBadlyScaledBFGSCentralGradientError bounds each central difference's error by twice its
@@ -684,8 +799,16 @@ func brownBadlyScaledBFGSCentralConfirmGradient(x *[2]float64, fx float64, g, e 
 func brownBadlyScaledBFGSCentralGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *brownBadlyScaledBFGSCentralDifferences) {
 	noise := brownBadlyScaledBFGSCentralNoiseLevel(x, fx, g)
 	for i := range e {
-		h := diffs.ratio[i] * brownBadlyScaledBFGSCentralLarger(1, brownBadlyScaledBFGSCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		h, oneSided := brownBadlyScaledBFGSCentralCentralInterval(x, i, diffs)
+		h = brownBadlyScaledBFGSCentralAbs(h)
+		switch {
+		case h == 0:
+			e[i] = 0 // fixed by equal bounds
+		case oneSided:
+			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+		default:
+			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		}
 	}
 }
 
@@ -707,6 +830,11 @@ func brownBadlyScaledBFGSCentralRoundingFloor(x, g, e *[2]float64, diffs *brownB
 // calibration, which brownBadlyScaledBFGSCentralConfirmGradient has just made at x.
 func brownBadlyScaledBFGSCentralDiagonalCurvature(x, g *[2]float64, diffs *brownBadlyScaledBFGSCentralDifferences, h *[2]float64) {
 	*h = diffs.second
+}
+
+// brownBadlyScaledBFGSCentralStationarity measures the gradient itself.
+func brownBadlyScaledBFGSCentralStationarity(g, e, x *[2]float64, fx float64, b *brownBadlyScaledBFGSCentralBox) (measure, floor float64) {
+	return brownBadlyScaledBFGSCentralGradientMeasure(g, e, x, fx)
 }
 
 // brownBadlyScaledBFGSCentralGradientMeasure is the scale-free measure
@@ -742,6 +870,15 @@ func brownBadlyScaledBFGSCentralStepWithin(s, x *[2]float64, tol float64) bool {
 	return true
 }
 
+// brownBadlyScaledBFGSCentralCurvaturePair: without bounds the pair is used as it is.
+func brownBadlyScaledBFGSCentralCurvaturePair(s, y, x *[2]float64, b *brownBadlyScaledBFGSCentralBox) {
+}
+
+// brownBadlyScaledBFGSCentralSearchDirection is the direction's own.
+func brownBadlyScaledBFGSCentralSearchDirection(dir *brownBadlyScaledBFGSCentralDirection, x, g, d *[2]float64, b *brownBadlyScaledBFGSCentralBox) {
+	dir.compute(g, d)
+}
+
 // brownBadlyScaledBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func brownBadlyScaledBFGSCentralTinyStep(x, d *[2]float64, tol float64) float64 {
@@ -769,7 +906,10 @@ func brownBadlyScaledBFGSCentralTinyStep(x, d *[2]float64, tol float64) float64 
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (brownBadlyScaledBFGSCentralStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -778,13 +918,17 @@ func brownBadlyScaledBFGSCentralTinyStep(x, d *[2]float64, tol float64) float64 
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func brownBadlyScaledBFGSCentralLineSearch(x *[2]float64, fx float64, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *brownBadlyScaledBFGSCentralDifferences) brownBadlyScaledBFGSCentralLineResult {
+func brownBadlyScaledBFGSCentralLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *brownBadlyScaledBFGSCentralDifferences) brownBadlyScaledBFGSCentralLineResult {
 	low := brownBadlyScaledBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high brownBadlyScaledBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                           // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend brownBadlyScaledBFGSCentralRiseTrend // of the trials failing sufficient decrease
+	var trend brownBadlyScaledBFGSCentralRiseTrend                         // of the trials failing sufficient decrease
+	limit := brownBadlyScaledBFGSCentralStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < brownBadlyScaledBFGSCentralStepTrials; trial++ {
 		if bracketed && brownBadlyScaledBFGSCentralAbs(high.step-low.step) <= tiny {
@@ -794,12 +938,12 @@ func brownBadlyScaledBFGSCentralLineSearch(x *[2]float64, fx float64, d *[2]floa
 			if low.step == 0 {
 				return brownBadlyScaledBFGSCentralLineResult{calls: calls, rising: trend.contradicts(), end: brownBadlyScaledBFGSCentralTinyOrExhausted(brownBadlyScaledBFGSCentralFinite(high.value))}
 			}
-			return brownBadlyScaledBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return brownBadlyScaledBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return brownBadlyScaledBFGSCentralLineResult{calls: calls, end: brownBadlyScaledBFGSCentralSearchOutOfBudget}
 		}
-		brownBadlyScaledBFGSCentralMoveTo(xt, x, t, d)
+		brownBadlyScaledBFGSCentralTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := brownBadlyScaledBFGSCentralLinePoint{step: t, value: BrownBadlyScaled(xt)}
 		calls++
 		previous := low
@@ -810,8 +954,7 @@ func brownBadlyScaledBFGSCentralLineSearch(x *[2]float64, fx float64, d *[2]floa
 			if calls+brownBadlyScaledBFGSCentralDerivativeCost > budget {
 				return brownBadlyScaledBFGSCentralLineResult{calls: calls, end: brownBadlyScaledBFGSCentralSearchOutOfBudget}
 			}
-			brownBadlyScaledBFGSCentralDerivative(xt, current.value, gt, diffs)
-			calls += brownBadlyScaledBFGSCentralDerivativeCost
+			calls += brownBadlyScaledBFGSCentralDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = brownBadlyScaledBFGSCentralDot(gt, d), true
 			switch {
 			case !brownBadlyScaledBFGSCentralFinite(current.slope):
@@ -822,18 +965,22 @@ func brownBadlyScaledBFGSCentralLineSearch(x *[2]float64, fx float64, d *[2]floa
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return brownBadlyScaledBFGSCentralLineResult{step: t, value: current.value, calls: calls, gradient: true, end: brownBadlyScaledBFGSCentralSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = brownBadlyScaledBFGSCentralZoomTrial(&low, &high)
-		} else {
-			t = brownBadlyScaledBFGSCentralExpandTrial(&previous, &current)
+		} else if t = brownBadlyScaledBFGSCentralExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return brownBadlyScaledBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return brownBadlyScaledBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return brownBadlyScaledBFGSCentralLineResult{calls: calls, rising: trend.contradicts(), end: brownBadlyScaledBFGSCentralSearchExhausted}
 }
@@ -920,6 +1067,11 @@ func brownBadlyScaledBFGSCentralFaithfulStep(x, xt, d *[2]float64, t float64) bo
 	return true
 }
 
+// brownBadlyScaledBFGSCentralStepCap: without bounds a step may be as long as the search wants.
+func brownBadlyScaledBFGSCentralStepCap(x, d *[2]float64, tiny float64, b *brownBadlyScaledBFGSCentralBox) float64 {
+	return math.Inf(1)
+}
+
 // brownBadlyScaledBFGSCentralTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -944,10 +1096,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func brownBadlyScaledBFGSCentralAcceptLow(x, d *[2]float64, low *brownBadlyScaledBFGSCentralLinePoint, lowGradient *[2]float64, calls int, xt, gt *[2]float64) brownBadlyScaledBFGSCentralLineResult {
-	brownBadlyScaledBFGSCentralMoveTo(xt, x, low.step, d)
+func brownBadlyScaledBFGSCentralAcceptLow(x, d *[2]float64, low *brownBadlyScaledBFGSCentralLinePoint, lowGradient *[2]float64, calls int, xt, gt *[2]float64, diffs *brownBadlyScaledBFGSCentralDifferences) brownBadlyScaledBFGSCentralLineResult {
+	brownBadlyScaledBFGSCentralTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return brownBadlyScaledBFGSCentralLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: brownBadlyScaledBFGSCentralSearchAccepted}
+}
+
+// brownBadlyScaledBFGSCentralTrialPoint is x + t·d.
+func brownBadlyScaledBFGSCentralTrialPoint(out, x *[2]float64, t float64, d *[2]float64, b *brownBadlyScaledBFGSCentralBox) {
+	brownBadlyScaledBFGSCentralMoveTo(out, x, t, d)
 }
 
 // brownBadlyScaledBFGSCentralMoveTo sets out = x + t·d.

@@ -88,6 +88,9 @@ func BrownBadlyScaledCGAnalyticDefaultLimits() BrownBadlyScaledCGAnalyticLimits 
 	}
 }
 
+// brownBadlyScaledCGAnalyticBox is empty: mgh.toml sets no bounds on BrownBadlyScaledCGAnalytic.
+type brownBadlyScaledCGAnalyticBox struct{}
+
 // BrownBadlyScaledCGAnalytic minimizes BrownBadlyScaled from x0, as mgh.toml specifies.
 //
 // Direction cg: nonlinear conjugate gradients, Polak–Ribière clipped at zero (PR+), restarted every dim steps.
@@ -105,7 +108,7 @@ func BrownBadlyScaledCGAnalytic(x0 [2]float64) BrownBadlyScaledCGAnalyticResult 
 
 // BrownBadlyScaledCGAnalyticWithLimits is BrownBadlyScaledCGAnalytic with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func BrownBadlyScaledCGAnalyticWithLimits(x0 [2]float64, limits BrownBadlyScaledCGAnalyticLimits) BrownBadlyScaledCGAnalyticResult {
-	out := brownBadlyScaledCGAnalyticMinimize(x0, limits)
+	out := brownBadlyScaledCGAnalyticMinimize(x0, limits, brownBadlyScaledCGAnalyticBox{})
 	return BrownBadlyScaledCGAnalyticResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func brownBadlyScaledCGAnalyticMinimize(x0 [2]float64, lim BrownBadlyScaledCGAnalyticLimits) brownBadlyScaledCGAnalyticOutcome {
-	out := brownBadlyScaledCGAnalyticOutcome{x: x0, status: BrownBadlyScaledCGAnalyticOutOfEvaluations, gradient: math.NaN()}
+func brownBadlyScaledCGAnalyticMinimize(x0 [2]float64, lim BrownBadlyScaledCGAnalyticLimits, bounds brownBadlyScaledCGAnalyticBox) brownBadlyScaledCGAnalyticOutcome {
+	x := x0
+	brownBadlyScaledCGAnalyticEnterBox(&x, &bounds)
+	out := brownBadlyScaledCGAnalyticOutcome{x: x, status: BrownBadlyScaledCGAnalyticOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := BrownBadlyScaled(&x)
 	out.f, out.evaluations = fx, 1
 	if !brownBadlyScaledCGAnalyticFinite(fx) || !brownBadlyScaledCGAnalyticFiniteVec(&x) {
 		out.status = BrownBadlyScaledCGAnalyticNonFiniteStart
 		return out
 	}
-	var diffs brownBadlyScaledCGAnalyticDifferences
+	diffs := brownBadlyScaledCGAnalyticDifferences{bounds: bounds}
 	calls, ok := brownBadlyScaledCGAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+brownBadlyScaledCGAnalyticDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [2]float64
-	brownBadlyScaledCGAnalyticDerivative(&x, fx, &g, &diffs)
-	out.evaluations += brownBadlyScaledCGAnalyticDerivativeCost
+	out.evaluations += brownBadlyScaledCGAnalyticDerivative(&x, fx, &g, &diffs)
 
 	if !brownBadlyScaledCGAnalyticFiniteVec(&g) {
 		out.status = BrownBadlyScaledCGAnalyticNonFiniteGradient
@@ -211,7 +214,7 @@ func brownBadlyScaledCGAnalyticMinimize(x0 [2]float64, lim BrownBadlyScaledCGAna
 		case !confirmed:
 			brownBadlyScaledCGAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := brownBadlyScaledCGAnalyticGradientMeasure(&g, &e, &x, fx)
+		measure, floor := brownBadlyScaledCGAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, brownBadlyScaledCGAnalyticLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func brownBadlyScaledCGAnalyticMinimize(x0 [2]float64, lim BrownBadlyScaledCGAna
 			if rises >= 8 {
 				return best.ending(BrownBadlyScaledCGAnalyticDiverged, out.iterations, out.evaluations)
 			}
+			brownBadlyScaledCGAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(BrownBadlyScaledCGAnalyticOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		brownBadlyScaledCGAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := brownBadlyScaledCGAnalyticDot(&g, &d)
 		if !(now < 0) || !brownBadlyScaledCGAnalyticFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			brownBadlyScaledCGAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = brownBadlyScaledCGAnalyticDot(&g, &d)
 		}
 		first := float64(brownBadlyScaledCGAnalyticStepInitial)
@@ -267,7 +271,7 @@ func brownBadlyScaledCGAnalyticMinimize(x0 [2]float64, lim BrownBadlyScaledCGAna
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := brownBadlyScaledCGAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := brownBadlyScaledCGAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := brownBadlyScaledCGAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case brownBadlyScaledCGAnalyticSearchOutOfBudget:
@@ -303,8 +307,7 @@ func brownBadlyScaledCGAnalyticMinimize(x0 [2]float64, lim BrownBadlyScaledCGAna
 				}
 				return best.ending(BrownBadlyScaledCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			brownBadlyScaledCGAnalyticDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += brownBadlyScaledCGAnalyticDerivativeCost
+			out.evaluations += brownBadlyScaledCGAnalyticDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		brownBadlyScaledCGAnalyticDifference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o brownBadlyScaledCGAnalyticOutcome) ending(end BrownBadlyScaledCGAnalytic
 	return o
 }
 
+// brownBadlyScaledCGAnalyticEnterBox: without bounds every start is inside.
+func brownBadlyScaledCGAnalyticEnterBox(x *[2]float64, b *brownBadlyScaledCGAnalyticBox) {}
+
 // brownBadlyScaledCGAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func brownBadlyScaledCGAnalyticFiniteVec(x *[2]float64) bool {
 	return true
 }
 
-// brownBadlyScaledCGAnalyticDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// brownBadlyScaledCGAnalyticDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type brownBadlyScaledCGAnalyticDifferences struct {
 	ratio     [2]float64
 	curvature [2]float64
 	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see brownBadlyScaledCGAnalyticRoundingFloor)
+	bounds    brownBadlyScaledCGAnalyticBox
 }
 
 // brownBadlyScaledCGAnalyticCalibrate: an analytic gradient needs no intervals.
@@ -384,8 +392,9 @@ func brownBadlyScaledCGAnalyticCalibrate(x *[2]float64, fx float64, diffs *brown
 }
 
 // brownBadlyScaledCGAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func brownBadlyScaledCGAnalyticDerivative(x *[2]float64, fx float64, g *[2]float64, diffs *brownBadlyScaledCGAnalyticDifferences) {
+func brownBadlyScaledCGAnalyticDerivative(x *[2]float64, fx float64, g *[2]float64, diffs *brownBadlyScaledCGAnalyticDifferences) int {
 	BrownBadlyScaledGrad(x, g)
+	return 0
 }
 
 // brownBadlyScaledCGAnalyticDirection is nonlinear conjugate gradients with the Polak–Ribière
@@ -517,13 +526,13 @@ func brownBadlyScaledCGAnalyticConfirmGradient(x *[2]float64, fx float64, g, e *
 		wide.ratio[i] *= 2
 	}
 	var doubled [2]float64
-	brownBadlyScaledCGAnalyticDerivative(x, fx, g, diffs)
-	brownBadlyScaledCGAnalyticDerivative(x, fx, &doubled, &wide)
+	calls += brownBadlyScaledCGAnalyticDerivative(x, fx, g, diffs)
+	calls += brownBadlyScaledCGAnalyticDerivative(x, fx, &doubled, &wide)
 	brownBadlyScaledCGAnalyticGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * brownBadlyScaledCGAnalyticAbs(g[i]-doubled[i])
 	}
-	return calls + 2*brownBadlyScaledCGAnalyticDerivativeCost, true
+	return calls, true
 }
 
 // brownBadlyScaledCGAnalyticGradientError: the analytic gradient is taken as exact; its error is
@@ -565,23 +574,70 @@ func brownBadlyScaledCGAnalyticDiagonalCurvature(x, g *[2]float64, diffs *brownB
 	var moved [2]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := brownBadlyScaledCGAnalyticProbeStep(xi, brownBadlyScaledCGAnalyticSquareRoot(brownBadlyScaledCGAnalyticUnitRoundoff)*brownBadlyScaledCGAnalyticLarger(1, brownBadlyScaledCGAnalyticAbs(xi)))
-		probe[i] = up
-		BrownBadlyScaledGrad(&probe, &moved)
-		h[i] = brownBadlyScaledCGAnalyticAbs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := brownBadlyScaledCGAnalyticCoordinateRange(i, diffs)
+		up, delta := brownBadlyScaledCGAnalyticProbeStep(xi, brownBadlyScaledCGAnalyticOneSide(xi, brownBadlyScaledCGAnalyticSquareRoot(brownBadlyScaledCGAnalyticUnitRoundoff)*brownBadlyScaledCGAnalyticLarger(1, brownBadlyScaledCGAnalyticAbs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			BrownBadlyScaledGrad(&probe, &moved)
+			h[i] = brownBadlyScaledCGAnalyticAbs(moved[i]-g[i]) / brownBadlyScaledCGAnalyticAbs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// brownBadlyScaledCGAnalyticProbeStep returns x_i moved by h, and the step actually representable.
-func brownBadlyScaledCGAnalyticProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// brownBadlyScaledCGAnalyticCoordinateRange: without bounds any probe is allowed.
+func brownBadlyScaledCGAnalyticCoordinateRange(i int, diffs *brownBadlyScaledCGAnalyticDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// brownBadlyScaledCGAnalyticProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func brownBadlyScaledCGAnalyticProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := brownBadlyScaledCGAnalyticClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// brownBadlyScaledCGAnalyticClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func brownBadlyScaledCGAnalyticClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// brownBadlyScaledCGAnalyticOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func brownBadlyScaledCGAnalyticOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // brownBadlyScaledCGAnalyticSquareRoot returns √v.
 func brownBadlyScaledCGAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// brownBadlyScaledCGAnalyticStationarity measures the gradient itself.
+func brownBadlyScaledCGAnalyticStationarity(g, e, x *[2]float64, fx float64, b *brownBadlyScaledCGAnalyticBox) (measure, floor float64) {
+	return brownBadlyScaledCGAnalyticGradientMeasure(g, e, x, fx)
 }
 
 // brownBadlyScaledCGAnalyticGradientMeasure is the scale-free measure
@@ -617,6 +673,14 @@ func brownBadlyScaledCGAnalyticStepWithin(s, x *[2]float64, tol float64) bool {
 	return true
 }
 
+// brownBadlyScaledCGAnalyticCurvaturePair: without bounds the pair is used as it is.
+func brownBadlyScaledCGAnalyticCurvaturePair(s, y, x *[2]float64, b *brownBadlyScaledCGAnalyticBox) {}
+
+// brownBadlyScaledCGAnalyticSearchDirection is the direction's own.
+func brownBadlyScaledCGAnalyticSearchDirection(dir *brownBadlyScaledCGAnalyticDirection, x, g, d *[2]float64, b *brownBadlyScaledCGAnalyticBox) {
+	dir.compute(g, d)
+}
+
 // brownBadlyScaledCGAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func brownBadlyScaledCGAnalyticTinyStep(x, d *[2]float64, tol float64) float64 {
@@ -644,7 +708,10 @@ func brownBadlyScaledCGAnalyticTinyStep(x, d *[2]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (brownBadlyScaledCGAnalyticStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -653,13 +720,17 @@ func brownBadlyScaledCGAnalyticTinyStep(x, d *[2]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func brownBadlyScaledCGAnalyticLineSearch(x *[2]float64, fx float64, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *brownBadlyScaledCGAnalyticDifferences) brownBadlyScaledCGAnalyticLineResult {
+func brownBadlyScaledCGAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *brownBadlyScaledCGAnalyticDifferences) brownBadlyScaledCGAnalyticLineResult {
 	low := brownBadlyScaledCGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high brownBadlyScaledCGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                          // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend brownBadlyScaledCGAnalyticRiseTrend // of the trials failing sufficient decrease
+	var trend brownBadlyScaledCGAnalyticRiseTrend                         // of the trials failing sufficient decrease
+	limit := brownBadlyScaledCGAnalyticStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < brownBadlyScaledCGAnalyticStepTrials; trial++ {
 		if bracketed && brownBadlyScaledCGAnalyticAbs(high.step-low.step) <= tiny {
@@ -669,12 +740,12 @@ func brownBadlyScaledCGAnalyticLineSearch(x *[2]float64, fx float64, d *[2]float
 			if low.step == 0 {
 				return brownBadlyScaledCGAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: brownBadlyScaledCGAnalyticTinyOrExhausted(brownBadlyScaledCGAnalyticFinite(high.value))}
 			}
-			return brownBadlyScaledCGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return brownBadlyScaledCGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return brownBadlyScaledCGAnalyticLineResult{calls: calls, end: brownBadlyScaledCGAnalyticSearchOutOfBudget}
 		}
-		brownBadlyScaledCGAnalyticMoveTo(xt, x, t, d)
+		brownBadlyScaledCGAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := brownBadlyScaledCGAnalyticLinePoint{step: t, value: BrownBadlyScaled(xt)}
 		calls++
 		previous := low
@@ -685,8 +756,7 @@ func brownBadlyScaledCGAnalyticLineSearch(x *[2]float64, fx float64, d *[2]float
 			if calls+brownBadlyScaledCGAnalyticDerivativeCost > budget {
 				return brownBadlyScaledCGAnalyticLineResult{calls: calls, end: brownBadlyScaledCGAnalyticSearchOutOfBudget}
 			}
-			brownBadlyScaledCGAnalyticDerivative(xt, current.value, gt, diffs)
-			calls += brownBadlyScaledCGAnalyticDerivativeCost
+			calls += brownBadlyScaledCGAnalyticDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = brownBadlyScaledCGAnalyticDot(gt, d), true
 			switch {
 			case !brownBadlyScaledCGAnalyticFinite(current.slope):
@@ -697,18 +767,22 @@ func brownBadlyScaledCGAnalyticLineSearch(x *[2]float64, fx float64, d *[2]float
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return brownBadlyScaledCGAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: brownBadlyScaledCGAnalyticSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = brownBadlyScaledCGAnalyticZoomTrial(&low, &high)
-		} else {
-			t = brownBadlyScaledCGAnalyticExpandTrial(&previous, &current)
+		} else if t = brownBadlyScaledCGAnalyticExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return brownBadlyScaledCGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return brownBadlyScaledCGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return brownBadlyScaledCGAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: brownBadlyScaledCGAnalyticSearchExhausted}
 }
@@ -795,6 +869,11 @@ func brownBadlyScaledCGAnalyticFaithfulStep(x, xt, d *[2]float64, t float64) boo
 	return true
 }
 
+// brownBadlyScaledCGAnalyticStepCap: without bounds a step may be as long as the search wants.
+func brownBadlyScaledCGAnalyticStepCap(x, d *[2]float64, tiny float64, b *brownBadlyScaledCGAnalyticBox) float64 {
+	return math.Inf(1)
+}
+
 // brownBadlyScaledCGAnalyticTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -819,10 +898,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func brownBadlyScaledCGAnalyticAcceptLow(x, d *[2]float64, low *brownBadlyScaledCGAnalyticLinePoint, lowGradient *[2]float64, calls int, xt, gt *[2]float64) brownBadlyScaledCGAnalyticLineResult {
-	brownBadlyScaledCGAnalyticMoveTo(xt, x, low.step, d)
+func brownBadlyScaledCGAnalyticAcceptLow(x, d *[2]float64, low *brownBadlyScaledCGAnalyticLinePoint, lowGradient *[2]float64, calls int, xt, gt *[2]float64, diffs *brownBadlyScaledCGAnalyticDifferences) brownBadlyScaledCGAnalyticLineResult {
+	brownBadlyScaledCGAnalyticTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return brownBadlyScaledCGAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: brownBadlyScaledCGAnalyticSearchAccepted}
+}
+
+// brownBadlyScaledCGAnalyticTrialPoint is x + t·d.
+func brownBadlyScaledCGAnalyticTrialPoint(out, x *[2]float64, t float64, d *[2]float64, b *brownBadlyScaledCGAnalyticBox) {
+	brownBadlyScaledCGAnalyticMoveTo(out, x, t, d)
 }
 
 // brownBadlyScaledCGAnalyticMoveTo sets out = x + t·d.
@@ -877,21 +961,6 @@ func brownBadlyScaledCGAnalyticModelMinimizer(a, b *brownBadlyScaledCGAnalyticLi
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, brownBadlyScaledCGAnalyticFinite(t)
-}
-
-// brownBadlyScaledCGAnalyticClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func brownBadlyScaledCGAnalyticClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // brownBadlyScaledCGAnalyticExpandTrial picks a larger trial after current met sufficient decrease

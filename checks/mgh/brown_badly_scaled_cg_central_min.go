@@ -88,6 +88,9 @@ func BrownBadlyScaledCGCentralDefaultLimits() BrownBadlyScaledCGCentralLimits {
 	}
 }
 
+// brownBadlyScaledCGCentralBox is empty: mgh.toml sets no bounds on BrownBadlyScaledCGCentral.
+type brownBadlyScaledCGCentralBox struct{}
+
 // BrownBadlyScaledCGCentral minimizes BrownBadlyScaled from x0, as mgh.toml specifies.
 //
 // Direction cg: nonlinear conjugate gradients, Polak–Ribière clipped at zero (PR+), restarted every dim steps.
@@ -105,7 +108,7 @@ func BrownBadlyScaledCGCentral(x0 [2]float64) BrownBadlyScaledCGCentralResult {
 
 // BrownBadlyScaledCGCentralWithLimits is BrownBadlyScaledCGCentral with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func BrownBadlyScaledCGCentralWithLimits(x0 [2]float64, limits BrownBadlyScaledCGCentralLimits) BrownBadlyScaledCGCentralResult {
-	out := brownBadlyScaledCGCentralMinimize(x0, limits)
+	out := brownBadlyScaledCGCentralMinimize(x0, limits, brownBadlyScaledCGCentralBox{})
 	return BrownBadlyScaledCGCentralResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func brownBadlyScaledCGCentralMinimize(x0 [2]float64, lim BrownBadlyScaledCGCentralLimits) brownBadlyScaledCGCentralOutcome {
-	out := brownBadlyScaledCGCentralOutcome{x: x0, status: BrownBadlyScaledCGCentralOutOfEvaluations, gradient: math.NaN()}
+func brownBadlyScaledCGCentralMinimize(x0 [2]float64, lim BrownBadlyScaledCGCentralLimits, bounds brownBadlyScaledCGCentralBox) brownBadlyScaledCGCentralOutcome {
+	x := x0
+	brownBadlyScaledCGCentralEnterBox(&x, &bounds)
+	out := brownBadlyScaledCGCentralOutcome{x: x, status: BrownBadlyScaledCGCentralOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := BrownBadlyScaled(&x)
 	out.f, out.evaluations = fx, 1
 	if !brownBadlyScaledCGCentralFinite(fx) || !brownBadlyScaledCGCentralFiniteVec(&x) {
 		out.status = BrownBadlyScaledCGCentralNonFiniteStart
 		return out
 	}
-	var diffs brownBadlyScaledCGCentralDifferences
+	diffs := brownBadlyScaledCGCentralDifferences{bounds: bounds}
 	calls, ok := brownBadlyScaledCGCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+brownBadlyScaledCGCentralDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [2]float64
-	brownBadlyScaledCGCentralDerivative(&x, fx, &g, &diffs)
-	out.evaluations += brownBadlyScaledCGCentralDerivativeCost
+	out.evaluations += brownBadlyScaledCGCentralDerivative(&x, fx, &g, &diffs)
 
 	if !brownBadlyScaledCGCentralFiniteVec(&g) {
 		out.status = BrownBadlyScaledCGCentralNonFiniteGradient
@@ -211,7 +214,7 @@ func brownBadlyScaledCGCentralMinimize(x0 [2]float64, lim BrownBadlyScaledCGCent
 		case !confirmed:
 			brownBadlyScaledCGCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := brownBadlyScaledCGCentralGradientMeasure(&g, &e, &x, fx)
+		measure, floor := brownBadlyScaledCGCentralStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, brownBadlyScaledCGCentralLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func brownBadlyScaledCGCentralMinimize(x0 [2]float64, lim BrownBadlyScaledCGCent
 			if rises >= 8 {
 				return best.ending(BrownBadlyScaledCGCentralDiverged, out.iterations, out.evaluations)
 			}
+			brownBadlyScaledCGCentralCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(BrownBadlyScaledCGCentralOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		brownBadlyScaledCGCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := brownBadlyScaledCGCentralDot(&g, &d)
 		if !(now < 0) || !brownBadlyScaledCGCentralFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			brownBadlyScaledCGCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = brownBadlyScaledCGCentralDot(&g, &d)
 		}
 		first := float64(brownBadlyScaledCGCentralStepInitial)
@@ -267,7 +271,7 @@ func brownBadlyScaledCGCentralMinimize(x0 [2]float64, lim BrownBadlyScaledCGCent
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := brownBadlyScaledCGCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := brownBadlyScaledCGCentralLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := brownBadlyScaledCGCentralLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case brownBadlyScaledCGCentralSearchOutOfBudget:
@@ -303,8 +307,7 @@ func brownBadlyScaledCGCentralMinimize(x0 [2]float64, lim BrownBadlyScaledCGCent
 				}
 				return best.ending(BrownBadlyScaledCGCentralOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			brownBadlyScaledCGCentralDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += brownBadlyScaledCGCentralDerivativeCost
+			out.evaluations += brownBadlyScaledCGCentralDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		brownBadlyScaledCGCentralDifference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o brownBadlyScaledCGCentralOutcome) ending(end BrownBadlyScaledCGCentralSt
 	return o
 }
 
+// brownBadlyScaledCGCentralEnterBox: without bounds every start is inside.
+func brownBadlyScaledCGCentralEnterBox(x *[2]float64, b *brownBadlyScaledCGCentralBox) {}
+
 // brownBadlyScaledCGCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func brownBadlyScaledCGCentralFiniteVec(x *[2]float64) bool {
 	return true
 }
 
-// brownBadlyScaledCGCentralDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// brownBadlyScaledCGCentralDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type brownBadlyScaledCGCentralDifferences struct {
 	ratio     [2]float64
 	curvature [2]float64
 	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see brownBadlyScaledCGCentralRoundingFloor)
+	bounds    brownBadlyScaledCGCentralBox
 }
 
 // brownBadlyScaledCGCentralCalibrate chooses each central-difference interval from the
@@ -397,19 +405,45 @@ func brownBadlyScaledCGCentralCalibrate(x *[2]float64, fx float64, diffs *brownB
 	var slope [2]float64
 	scale := brownBadlyScaledCGCentralAbs(fx)
 	quarter := brownBadlyScaledCGCentralSquareRoot(brownBadlyScaledCGCentralSquareRoot(brownBadlyScaledCGCentralUnitRoundoff)) // u^(1/4)
+	calls := 0
 	for i := range probe {
-		if 4*(i+1) > budget {
-			return 4 * i, false
+		if calls+4 > budget {
+			return calls, false
 		}
 		xi := probe[i]
 		bar := quarter * brownBadlyScaledCGCentralLarger(1, brownBadlyScaledCGCentralAbs(xi))
+		lower, upper := brownBadlyScaledCGCentralCoordinateRange(i, diffs)
+		if xi+2*bar > upper || xi-2*bar < lower {
+			// At a bound: three probes on the side with room, at h, 2h
+			// and 3h, for f‴ ≈ (f(3h) − 3f(2h) + 3f(h) − f(0))/h³ (the
+			// third forward difference).
+			h := brownBadlyScaledCGCentralOneSide(xi, bar, 3, lower, upper)
+			if h == 0 {
+				continue // fixed by equal bounds
+			}
+			var f [3]float64
+			for k := range f {
+				probe[i], _ = brownBadlyScaledCGCentralProbeStep(xi, float64(k+1)*h, lower, upper)
+				f[k] = BrownBadlyScaled(&probe)
+				scale = brownBadlyScaledCGCentralLarger(scale, brownBadlyScaledCGCentralMagnitude(f[k]))
+			}
+			probe[i] = xi
+			calls += 3
+			if brownBadlyScaledCGCentralFinite(f[0]) && brownBadlyScaledCGCentralFinite(f[1]) && brownBadlyScaledCGCentralFinite(f[2]) {
+				diffs.curvature[i] = brownBadlyScaledCGCentralAbs(f[2]-3*f[1]+3*f[0]-fx) / brownBadlyScaledCGCentralAbs(h*h*h)
+				diffs.second[i] = brownBadlyScaledCGCentralAbs(fx-2*f[0]+f[1]) / (h * h)
+				slope[i] = (-3*fx + 4*f[0] - f[1]) / (2 * h)
+			}
+			continue
+		}
 		var f [4]float64
 		for k, m := range [4]float64{2, 1, -1, -2} {
-			probe[i], _ = brownBadlyScaledCGCentralProbeStep(xi, m*bar)
+			probe[i], _ = brownBadlyScaledCGCentralProbeStep(xi, m*bar, lower, upper)
 			f[k] = BrownBadlyScaled(&probe)
 			scale = brownBadlyScaledCGCentralLarger(scale, brownBadlyScaledCGCentralMagnitude(f[k]))
 		}
 		probe[i] = xi
+		calls += 4
 		if brownBadlyScaledCGCentralFinite(f[0]) && brownBadlyScaledCGCentralFinite(f[1]) && brownBadlyScaledCGCentralFinite(f[2]) && brownBadlyScaledCGCentralFinite(f[3]) {
 			diffs.curvature[i] = brownBadlyScaledCGCentralAbs(f[0]-2*f[1]+2*f[2]-f[3]) / (2 * bar * bar * bar)
 			diffs.second[i] = brownBadlyScaledCGCentralAbs(f[1]-2*fx+f[2]) / (bar * bar)
@@ -428,7 +462,7 @@ func brownBadlyScaledCGCentralCalibrate(x *[2]float64, fx float64, diffs *brownB
 		diffs.ratio[i] = brownBadlyScaledCGCentralClampBetween(h, 64*brownBadlyScaledCGCentralUnitRoundoff*s, bar) / s
 		diffs.curvature[i] = third
 	}
-	return 4 * len(probe), true
+	return calls, true
 }
 
 // brownBadlyScaledCGCentralAbs returns |v|.
@@ -454,10 +488,48 @@ func brownBadlyScaledCGCentralLarger(a, b float64) float64 {
 	return b
 }
 
-// brownBadlyScaledCGCentralProbeStep returns x_i moved by h, and the step actually representable.
-func brownBadlyScaledCGCentralProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// brownBadlyScaledCGCentralCoordinateRange: without bounds any probe is allowed.
+func brownBadlyScaledCGCentralCoordinateRange(i int, diffs *brownBadlyScaledCGCentralDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// brownBadlyScaledCGCentralOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func brownBadlyScaledCGCentralOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
+}
+
+// brownBadlyScaledCGCentralProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func brownBadlyScaledCGCentralProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := brownBadlyScaledCGCentralClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// brownBadlyScaledCGCentralClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func brownBadlyScaledCGCentralClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
 }
 
 // brownBadlyScaledCGCentralMagnitude is |v| for a finite v and 0 otherwise: a probe that fell
@@ -493,42 +565,85 @@ func brownBadlyScaledCGCentralCubeRoot(v float64) float64 {
 	return math.Cbrt(v)
 }
 
-// brownBadlyScaledCGCentralClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func brownBadlyScaledCGCentralClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
-}
-
 // brownBadlyScaledCGCentralDerivative approximates the gradient by central differences,
 //
 //	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),
 //
 // with the intervals brownBadlyScaledCGCentralCalibrate chose, h_i = ratio_i·max(1, |x_i|)
-// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls; fx is
-// not needed.
-func brownBadlyScaledCGCentralDerivative(x *[2]float64, fx float64, g *[2]float64, diffs *brownBadlyScaledCGCentralDifferences) {
+// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls. Where
+// a bound leaves no room on one side, the three-point endpoint formula on
+// the other side takes its place at the same cost (see parabola); a
+// variable fixed by equal bounds costs nothing and gets 0.
+func brownBadlyScaledCGCentralDerivative(x *[2]float64, fx float64, g *[2]float64, diffs *brownBadlyScaledCGCentralDifferences) int {
 	probe := *x
+	calls := 0
 	for i := range probe {
 		xi := probe[i]
-		h := diffs.ratio[i] * brownBadlyScaledCGCentralLarger(1, brownBadlyScaledCGCentralAbs(xi))
-		up, _ := brownBadlyScaledCGCentralProbeStep(xi, h)
-		down, _ := brownBadlyScaledCGCentralProbeStep(xi, -h)
-		probe[i] = up
-		fUp := BrownBadlyScaled(&probe)
-		probe[i] = down
-		fDown := BrownBadlyScaled(&probe)
-		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
-		probe[i] = xi
+		h, oneSided := brownBadlyScaledCGCentralCentralInterval(x, i, diffs)
+		lower, upper := brownBadlyScaledCGCentralCoordinateRange(i, diffs)
+		switch {
+		case h == 0:
+			g[i] = 0 // fixed by equal bounds
+			continue
+		case oneSided:
+			g[i], _, _ = brownBadlyScaledCGCentralSidedProbes(&probe, i, fx, h, lower, upper) // the three-point endpoint formula
+		default:
+			up, _ := brownBadlyScaledCGCentralProbeStep(xi, h, lower, upper)
+			down, _ := brownBadlyScaledCGCentralProbeStep(xi, -h, lower, upper)
+			probe[i] = up
+			fUp := BrownBadlyScaled(&probe)
+			probe[i] = down
+			fDown := BrownBadlyScaled(&probe)
+			g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+			probe[i] = xi
+		}
+		calls += 2
 	}
+	return calls
+}
+
+// brownBadlyScaledCGCentralCentralInterval is the interval of coordinate i at x, ratio_i·max(1,
+// |x_i|), and whether the box leaves room for probes on both sides; when
+// it does not, the interval is signed towards the side with room for
+// probes at h and 2h, and shortened where the box is narrower than that
+// (see brownBadlyScaledCGCentralOneSide).
+func brownBadlyScaledCGCentralCentralInterval(x *[2]float64, i int, diffs *brownBadlyScaledCGCentralDifferences) (h float64, oneSided bool) {
+	lower, upper := brownBadlyScaledCGCentralCoordinateRange(i, diffs)
+	h = diffs.ratio[i] * brownBadlyScaledCGCentralLarger(1, brownBadlyScaledCGCentralAbs(x[i]))
+	if x[i]+h <= upper && x[i]-h >= lower {
+		return h, false
+	}
+	return brownBadlyScaledCGCentralOneSide(x[i], h, 2, lower, upper), true
+}
+
+// brownBadlyScaledCGCentralSidedProbes evaluates f at x moved along coordinate i by h and by 2h,
+// kept within [lower, upper], and returns the slope and second derivative
+// of the parabola through them and (x, fx) (see parabola), and the larger
+// magnitude of the two values.
+func brownBadlyScaledCGCentralSidedProbes(probe *[2]float64, i int, fx, h, lower, upper float64) (slope, second, size float64) {
+	xi := probe[i]
+	near, a := brownBadlyScaledCGCentralProbeStep(xi, h, lower, upper)
+	far, b := brownBadlyScaledCGCentralProbeStep(xi, 2*h, lower, upper)
+	probe[i] = near
+	fNear := BrownBadlyScaled(probe)
+	probe[i] = far
+	fFar := BrownBadlyScaled(probe)
+	probe[i] = xi
+	slope, second = brownBadlyScaledCGCentralParabola(fx, a, fNear, b, fFar)
+	return slope, second, brownBadlyScaledCGCentralLarger(brownBadlyScaledCGCentralMagnitude(fNear), brownBadlyScaledCGCentralMagnitude(fFar))
+}
+
+// brownBadlyScaledCGCentralParabola returns the first and second derivatives at 0 of the parabola
+// through (0, f0), (a, fa) and (b, fb), for probes on one side of a bound.
+// With b = 2a they are the three-point endpoint formulas
+// f′ ≈ (−3f0 + 4fa − fb)/(2a), error a²|f‴|/3, and
+// f″ ≈ (f0 − 2fa + fb)/a² (Burden & Faires, Numerical Analysis, §4.1
+// and §4.1's second-derivative formulas, from memory); written for unequal
+// a and b, so that the representable steps can be used.
+func brownBadlyScaledCGCentralParabola(f0, a, fa, b, fb float64) (slope, second float64) {
+	slope = -(a+b)/(a*b)*f0 + b/(a*(b-a))*fa - a/(b*(b-a))*fb
+	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
+	return slope, second
 }
 
 // brownBadlyScaledCGCentralDirection is nonlinear conjugate gradients with the Polak–Ribière
@@ -650,13 +765,13 @@ func brownBadlyScaledCGCentralConfirmGradient(x *[2]float64, fx float64, g, e *[
 		wide.ratio[i] *= 2
 	}
 	var doubled [2]float64
-	brownBadlyScaledCGCentralDerivative(x, fx, g, diffs)
-	brownBadlyScaledCGCentralDerivative(x, fx, &doubled, &wide)
+	calls += brownBadlyScaledCGCentralDerivative(x, fx, g, diffs)
+	calls += brownBadlyScaledCGCentralDerivative(x, fx, &doubled, &wide)
 	brownBadlyScaledCGCentralGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * brownBadlyScaledCGCentralAbs(g[i]-doubled[i])
 	}
-	return calls + 2*brownBadlyScaledCGCentralDerivativeCost, true
+	return calls, true
 }
 
 // brownBadlyScaledCGCentralGradientError bounds each central difference's error by twice its
@@ -666,8 +781,16 @@ func brownBadlyScaledCGCentralConfirmGradient(x *[2]float64, fx float64, g, e *[
 func brownBadlyScaledCGCentralGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *brownBadlyScaledCGCentralDifferences) {
 	noise := brownBadlyScaledCGCentralNoiseLevel(x, fx, g)
 	for i := range e {
-		h := diffs.ratio[i] * brownBadlyScaledCGCentralLarger(1, brownBadlyScaledCGCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		h, oneSided := brownBadlyScaledCGCentralCentralInterval(x, i, diffs)
+		h = brownBadlyScaledCGCentralAbs(h)
+		switch {
+		case h == 0:
+			e[i] = 0 // fixed by equal bounds
+		case oneSided:
+			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+		default:
+			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		}
 	}
 }
 
@@ -689,6 +812,11 @@ func brownBadlyScaledCGCentralRoundingFloor(x, g, e *[2]float64, diffs *brownBad
 // calibration, which brownBadlyScaledCGCentralConfirmGradient has just made at x.
 func brownBadlyScaledCGCentralDiagonalCurvature(x, g *[2]float64, diffs *brownBadlyScaledCGCentralDifferences, h *[2]float64) {
 	*h = diffs.second
+}
+
+// brownBadlyScaledCGCentralStationarity measures the gradient itself.
+func brownBadlyScaledCGCentralStationarity(g, e, x *[2]float64, fx float64, b *brownBadlyScaledCGCentralBox) (measure, floor float64) {
+	return brownBadlyScaledCGCentralGradientMeasure(g, e, x, fx)
 }
 
 // brownBadlyScaledCGCentralGradientMeasure is the scale-free measure
@@ -724,6 +852,14 @@ func brownBadlyScaledCGCentralStepWithin(s, x *[2]float64, tol float64) bool {
 	return true
 }
 
+// brownBadlyScaledCGCentralCurvaturePair: without bounds the pair is used as it is.
+func brownBadlyScaledCGCentralCurvaturePair(s, y, x *[2]float64, b *brownBadlyScaledCGCentralBox) {}
+
+// brownBadlyScaledCGCentralSearchDirection is the direction's own.
+func brownBadlyScaledCGCentralSearchDirection(dir *brownBadlyScaledCGCentralDirection, x, g, d *[2]float64, b *brownBadlyScaledCGCentralBox) {
+	dir.compute(g, d)
+}
+
 // brownBadlyScaledCGCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func brownBadlyScaledCGCentralTinyStep(x, d *[2]float64, tol float64) float64 {
@@ -751,7 +887,10 @@ func brownBadlyScaledCGCentralTinyStep(x, d *[2]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (brownBadlyScaledCGCentralStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -760,13 +899,17 @@ func brownBadlyScaledCGCentralTinyStep(x, d *[2]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func brownBadlyScaledCGCentralLineSearch(x *[2]float64, fx float64, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *brownBadlyScaledCGCentralDifferences) brownBadlyScaledCGCentralLineResult {
+func brownBadlyScaledCGCentralLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *brownBadlyScaledCGCentralDifferences) brownBadlyScaledCGCentralLineResult {
 	low := brownBadlyScaledCGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high brownBadlyScaledCGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                         // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend brownBadlyScaledCGCentralRiseTrend // of the trials failing sufficient decrease
+	var trend brownBadlyScaledCGCentralRiseTrend                         // of the trials failing sufficient decrease
+	limit := brownBadlyScaledCGCentralStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < brownBadlyScaledCGCentralStepTrials; trial++ {
 		if bracketed && brownBadlyScaledCGCentralAbs(high.step-low.step) <= tiny {
@@ -776,12 +919,12 @@ func brownBadlyScaledCGCentralLineSearch(x *[2]float64, fx float64, d *[2]float6
 			if low.step == 0 {
 				return brownBadlyScaledCGCentralLineResult{calls: calls, rising: trend.contradicts(), end: brownBadlyScaledCGCentralTinyOrExhausted(brownBadlyScaledCGCentralFinite(high.value))}
 			}
-			return brownBadlyScaledCGCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return brownBadlyScaledCGCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return brownBadlyScaledCGCentralLineResult{calls: calls, end: brownBadlyScaledCGCentralSearchOutOfBudget}
 		}
-		brownBadlyScaledCGCentralMoveTo(xt, x, t, d)
+		brownBadlyScaledCGCentralTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := brownBadlyScaledCGCentralLinePoint{step: t, value: BrownBadlyScaled(xt)}
 		calls++
 		previous := low
@@ -792,8 +935,7 @@ func brownBadlyScaledCGCentralLineSearch(x *[2]float64, fx float64, d *[2]float6
 			if calls+brownBadlyScaledCGCentralDerivativeCost > budget {
 				return brownBadlyScaledCGCentralLineResult{calls: calls, end: brownBadlyScaledCGCentralSearchOutOfBudget}
 			}
-			brownBadlyScaledCGCentralDerivative(xt, current.value, gt, diffs)
-			calls += brownBadlyScaledCGCentralDerivativeCost
+			calls += brownBadlyScaledCGCentralDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = brownBadlyScaledCGCentralDot(gt, d), true
 			switch {
 			case !brownBadlyScaledCGCentralFinite(current.slope):
@@ -804,18 +946,22 @@ func brownBadlyScaledCGCentralLineSearch(x *[2]float64, fx float64, d *[2]float6
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return brownBadlyScaledCGCentralLineResult{step: t, value: current.value, calls: calls, gradient: true, end: brownBadlyScaledCGCentralSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = brownBadlyScaledCGCentralZoomTrial(&low, &high)
-		} else {
-			t = brownBadlyScaledCGCentralExpandTrial(&previous, &current)
+		} else if t = brownBadlyScaledCGCentralExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return brownBadlyScaledCGCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return brownBadlyScaledCGCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return brownBadlyScaledCGCentralLineResult{calls: calls, rising: trend.contradicts(), end: brownBadlyScaledCGCentralSearchExhausted}
 }
@@ -902,6 +1048,11 @@ func brownBadlyScaledCGCentralFaithfulStep(x, xt, d *[2]float64, t float64) bool
 	return true
 }
 
+// brownBadlyScaledCGCentralStepCap: without bounds a step may be as long as the search wants.
+func brownBadlyScaledCGCentralStepCap(x, d *[2]float64, tiny float64, b *brownBadlyScaledCGCentralBox) float64 {
+	return math.Inf(1)
+}
+
 // brownBadlyScaledCGCentralTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -926,10 +1077,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func brownBadlyScaledCGCentralAcceptLow(x, d *[2]float64, low *brownBadlyScaledCGCentralLinePoint, lowGradient *[2]float64, calls int, xt, gt *[2]float64) brownBadlyScaledCGCentralLineResult {
-	brownBadlyScaledCGCentralMoveTo(xt, x, low.step, d)
+func brownBadlyScaledCGCentralAcceptLow(x, d *[2]float64, low *brownBadlyScaledCGCentralLinePoint, lowGradient *[2]float64, calls int, xt, gt *[2]float64, diffs *brownBadlyScaledCGCentralDifferences) brownBadlyScaledCGCentralLineResult {
+	brownBadlyScaledCGCentralTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return brownBadlyScaledCGCentralLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: brownBadlyScaledCGCentralSearchAccepted}
+}
+
+// brownBadlyScaledCGCentralTrialPoint is x + t·d.
+func brownBadlyScaledCGCentralTrialPoint(out, x *[2]float64, t float64, d *[2]float64, b *brownBadlyScaledCGCentralBox) {
+	brownBadlyScaledCGCentralMoveTo(out, x, t, d)
 }
 
 // brownBadlyScaledCGCentralMoveTo sets out = x + t·d.

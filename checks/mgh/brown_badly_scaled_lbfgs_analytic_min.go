@@ -88,6 +88,9 @@ func BrownBadlyScaledLBFGSAnalyticDefaultLimits() BrownBadlyScaledLBFGSAnalyticL
 	}
 }
 
+// brownBadlyScaledLBFGSAnalyticBox is empty: mgh.toml sets no bounds on BrownBadlyScaledLBFGSAnalytic.
+type brownBadlyScaledLBFGSAnalyticBox struct{}
+
 // BrownBadlyScaledLBFGSAnalytic minimizes BrownBadlyScaled from x0, as mgh.toml specifies.
 //
 // Direction lbfgs: limited-memory BFGS: the last `memory` pairs, two-loop recursion (2·memory·dim numbers).
@@ -105,7 +108,7 @@ func BrownBadlyScaledLBFGSAnalytic(x0 [2]float64) BrownBadlyScaledLBFGSAnalyticR
 
 // BrownBadlyScaledLBFGSAnalyticWithLimits is BrownBadlyScaledLBFGSAnalytic with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func BrownBadlyScaledLBFGSAnalyticWithLimits(x0 [2]float64, limits BrownBadlyScaledLBFGSAnalyticLimits) BrownBadlyScaledLBFGSAnalyticResult {
-	out := brownBadlyScaledLBFGSAnalyticMinimize(x0, limits)
+	out := brownBadlyScaledLBFGSAnalyticMinimize(x0, limits, brownBadlyScaledLBFGSAnalyticBox{})
 	return BrownBadlyScaledLBFGSAnalyticResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -159,27 +162,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func brownBadlyScaledLBFGSAnalyticMinimize(x0 [2]float64, lim BrownBadlyScaledLBFGSAnalyticLimits) brownBadlyScaledLBFGSAnalyticOutcome {
-	out := brownBadlyScaledLBFGSAnalyticOutcome{x: x0, status: BrownBadlyScaledLBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
+func brownBadlyScaledLBFGSAnalyticMinimize(x0 [2]float64, lim BrownBadlyScaledLBFGSAnalyticLimits, bounds brownBadlyScaledLBFGSAnalyticBox) brownBadlyScaledLBFGSAnalyticOutcome {
+	x := x0
+	brownBadlyScaledLBFGSAnalyticEnterBox(&x, &bounds)
+	out := brownBadlyScaledLBFGSAnalyticOutcome{x: x, status: BrownBadlyScaledLBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := BrownBadlyScaled(&x)
 	out.f, out.evaluations = fx, 1
 	if !brownBadlyScaledLBFGSAnalyticFinite(fx) || !brownBadlyScaledLBFGSAnalyticFiniteVec(&x) {
 		out.status = BrownBadlyScaledLBFGSAnalyticNonFiniteStart
 		return out
 	}
-	var diffs brownBadlyScaledLBFGSAnalyticDifferences
+	diffs := brownBadlyScaledLBFGSAnalyticDifferences{bounds: bounds}
 	calls, ok := brownBadlyScaledLBFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+brownBadlyScaledLBFGSAnalyticDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [2]float64
-	brownBadlyScaledLBFGSAnalyticDerivative(&x, fx, &g, &diffs)
-	out.evaluations += brownBadlyScaledLBFGSAnalyticDerivativeCost
+	out.evaluations += brownBadlyScaledLBFGSAnalyticDerivative(&x, fx, &g, &diffs)
 
 	if !brownBadlyScaledLBFGSAnalyticFiniteVec(&g) {
 		out.status = BrownBadlyScaledLBFGSAnalyticNonFiniteGradient
@@ -212,7 +215,7 @@ func brownBadlyScaledLBFGSAnalyticMinimize(x0 [2]float64, lim BrownBadlyScaledLB
 		case !confirmed:
 			brownBadlyScaledLBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := brownBadlyScaledLBFGSAnalyticGradientMeasure(&g, &e, &x, fx)
+		measure, floor := brownBadlyScaledLBFGSAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, brownBadlyScaledLBFGSAnalyticLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -251,16 +254,17 @@ func brownBadlyScaledLBFGSAnalyticMinimize(x0 [2]float64, lim BrownBadlyScaledLB
 			if rises >= 8 {
 				return best.ending(BrownBadlyScaledLBFGSAnalyticDiverged, out.iterations, out.evaluations)
 			}
+			brownBadlyScaledLBFGSAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(BrownBadlyScaledLBFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		brownBadlyScaledLBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := brownBadlyScaledLBFGSAnalyticDot(&g, &d)
 		if !(now < 0) || !brownBadlyScaledLBFGSAnalyticFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			brownBadlyScaledLBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = brownBadlyScaledLBFGSAnalyticDot(&g, &d)
 		}
 		first := float64(brownBadlyScaledLBFGSAnalyticStepInitial)
@@ -268,7 +272,7 @@ func brownBadlyScaledLBFGSAnalyticMinimize(x0 [2]float64, lim BrownBadlyScaledLB
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := brownBadlyScaledLBFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := brownBadlyScaledLBFGSAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := brownBadlyScaledLBFGSAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case brownBadlyScaledLBFGSAnalyticSearchOutOfBudget:
@@ -304,8 +308,7 @@ func brownBadlyScaledLBFGSAnalyticMinimize(x0 [2]float64, lim BrownBadlyScaledLB
 				}
 				return best.ending(BrownBadlyScaledLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			brownBadlyScaledLBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += brownBadlyScaledLBFGSAnalyticDerivativeCost
+			out.evaluations += brownBadlyScaledLBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		brownBadlyScaledLBFGSAnalyticDifference(&s, &xt, &x)
@@ -346,6 +349,9 @@ func (o brownBadlyScaledLBFGSAnalyticOutcome) ending(end BrownBadlyScaledLBFGSAn
 	return o
 }
 
+// brownBadlyScaledLBFGSAnalyticEnterBox: without bounds every start is inside.
+func brownBadlyScaledLBFGSAnalyticEnterBox(x *[2]float64, b *brownBadlyScaledLBFGSAnalyticBox) {}
+
 // brownBadlyScaledLBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -368,15 +374,17 @@ func brownBadlyScaledLBFGSAnalyticFiniteVec(x *[2]float64) bool {
 	return true
 }
 
-// brownBadlyScaledLBFGSAnalyticDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// brownBadlyScaledLBFGSAnalyticDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type brownBadlyScaledLBFGSAnalyticDifferences struct {
 	ratio     [2]float64
 	curvature [2]float64
 	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see brownBadlyScaledLBFGSAnalyticRoundingFloor)
+	bounds    brownBadlyScaledLBFGSAnalyticBox
 }
 
 // brownBadlyScaledLBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
@@ -385,8 +393,9 @@ func brownBadlyScaledLBFGSAnalyticCalibrate(x *[2]float64, fx float64, diffs *br
 }
 
 // brownBadlyScaledLBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func brownBadlyScaledLBFGSAnalyticDerivative(x *[2]float64, fx float64, g *[2]float64, diffs *brownBadlyScaledLBFGSAnalyticDifferences) {
+func brownBadlyScaledLBFGSAnalyticDerivative(x *[2]float64, fx float64, g *[2]float64, diffs *brownBadlyScaledLBFGSAnalyticDifferences) int {
 	BrownBadlyScaledGrad(x, g)
+	return 0
 }
 
 // brownBadlyScaledLBFGSAnalyticDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
@@ -551,13 +560,13 @@ func brownBadlyScaledLBFGSAnalyticConfirmGradient(x *[2]float64, fx float64, g, 
 		wide.ratio[i] *= 2
 	}
 	var doubled [2]float64
-	brownBadlyScaledLBFGSAnalyticDerivative(x, fx, g, diffs)
-	brownBadlyScaledLBFGSAnalyticDerivative(x, fx, &doubled, &wide)
+	calls += brownBadlyScaledLBFGSAnalyticDerivative(x, fx, g, diffs)
+	calls += brownBadlyScaledLBFGSAnalyticDerivative(x, fx, &doubled, &wide)
 	brownBadlyScaledLBFGSAnalyticGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * brownBadlyScaledLBFGSAnalyticAbs(g[i]-doubled[i])
 	}
-	return calls + 2*brownBadlyScaledLBFGSAnalyticDerivativeCost, true
+	return calls, true
 }
 
 // brownBadlyScaledLBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
@@ -599,18 +608,60 @@ func brownBadlyScaledLBFGSAnalyticDiagonalCurvature(x, g *[2]float64, diffs *bro
 	var moved [2]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := brownBadlyScaledLBFGSAnalyticProbeStep(xi, brownBadlyScaledLBFGSAnalyticSquareRoot(brownBadlyScaledLBFGSAnalyticUnitRoundoff)*brownBadlyScaledLBFGSAnalyticLarger(1, brownBadlyScaledLBFGSAnalyticAbs(xi)))
-		probe[i] = up
-		BrownBadlyScaledGrad(&probe, &moved)
-		h[i] = brownBadlyScaledLBFGSAnalyticAbs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := brownBadlyScaledLBFGSAnalyticCoordinateRange(i, diffs)
+		up, delta := brownBadlyScaledLBFGSAnalyticProbeStep(xi, brownBadlyScaledLBFGSAnalyticOneSide(xi, brownBadlyScaledLBFGSAnalyticSquareRoot(brownBadlyScaledLBFGSAnalyticUnitRoundoff)*brownBadlyScaledLBFGSAnalyticLarger(1, brownBadlyScaledLBFGSAnalyticAbs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			BrownBadlyScaledGrad(&probe, &moved)
+			h[i] = brownBadlyScaledLBFGSAnalyticAbs(moved[i]-g[i]) / brownBadlyScaledLBFGSAnalyticAbs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// brownBadlyScaledLBFGSAnalyticProbeStep returns x_i moved by h, and the step actually representable.
-func brownBadlyScaledLBFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// brownBadlyScaledLBFGSAnalyticCoordinateRange: without bounds any probe is allowed.
+func brownBadlyScaledLBFGSAnalyticCoordinateRange(i int, diffs *brownBadlyScaledLBFGSAnalyticDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// brownBadlyScaledLBFGSAnalyticProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func brownBadlyScaledLBFGSAnalyticProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := brownBadlyScaledLBFGSAnalyticClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// brownBadlyScaledLBFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func brownBadlyScaledLBFGSAnalyticClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// brownBadlyScaledLBFGSAnalyticOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func brownBadlyScaledLBFGSAnalyticOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // brownBadlyScaledLBFGSAnalyticSquareRoot returns √v.
@@ -626,6 +677,11 @@ func brownBadlyScaledLBFGSAnalyticLarger(a, b float64) float64 {
 		return a
 	}
 	return b
+}
+
+// brownBadlyScaledLBFGSAnalyticStationarity measures the gradient itself.
+func brownBadlyScaledLBFGSAnalyticStationarity(g, e, x *[2]float64, fx float64, b *brownBadlyScaledLBFGSAnalyticBox) (measure, floor float64) {
+	return brownBadlyScaledLBFGSAnalyticGradientMeasure(g, e, x, fx)
 }
 
 // brownBadlyScaledLBFGSAnalyticGradientMeasure is the scale-free measure
@@ -661,6 +717,15 @@ func brownBadlyScaledLBFGSAnalyticStepWithin(s, x *[2]float64, tol float64) bool
 	return true
 }
 
+// brownBadlyScaledLBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
+func brownBadlyScaledLBFGSAnalyticCurvaturePair(s, y, x *[2]float64, b *brownBadlyScaledLBFGSAnalyticBox) {
+}
+
+// brownBadlyScaledLBFGSAnalyticSearchDirection is the direction's own.
+func brownBadlyScaledLBFGSAnalyticSearchDirection(dir *brownBadlyScaledLBFGSAnalyticDirection, x, g, d *[2]float64, b *brownBadlyScaledLBFGSAnalyticBox) {
+	dir.compute(g, d)
+}
+
 // brownBadlyScaledLBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func brownBadlyScaledLBFGSAnalyticTinyStep(x, d *[2]float64, tol float64) float64 {
@@ -688,7 +753,10 @@ func brownBadlyScaledLBFGSAnalyticTinyStep(x, d *[2]float64, tol float64) float6
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (brownBadlyScaledLBFGSAnalyticStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -697,13 +765,17 @@ func brownBadlyScaledLBFGSAnalyticTinyStep(x, d *[2]float64, tol float64) float6
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func brownBadlyScaledLBFGSAnalyticLineSearch(x *[2]float64, fx float64, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *brownBadlyScaledLBFGSAnalyticDifferences) brownBadlyScaledLBFGSAnalyticLineResult {
+func brownBadlyScaledLBFGSAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *brownBadlyScaledLBFGSAnalyticDifferences) brownBadlyScaledLBFGSAnalyticLineResult {
 	low := brownBadlyScaledLBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high brownBadlyScaledLBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                             // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend brownBadlyScaledLBFGSAnalyticRiseTrend // of the trials failing sufficient decrease
+	var trend brownBadlyScaledLBFGSAnalyticRiseTrend                         // of the trials failing sufficient decrease
+	limit := brownBadlyScaledLBFGSAnalyticStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < brownBadlyScaledLBFGSAnalyticStepTrials; trial++ {
 		if bracketed && brownBadlyScaledLBFGSAnalyticAbs(high.step-low.step) <= tiny {
@@ -713,12 +785,12 @@ func brownBadlyScaledLBFGSAnalyticLineSearch(x *[2]float64, fx float64, d *[2]fl
 			if low.step == 0 {
 				return brownBadlyScaledLBFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: brownBadlyScaledLBFGSAnalyticTinyOrExhausted(brownBadlyScaledLBFGSAnalyticFinite(high.value))}
 			}
-			return brownBadlyScaledLBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return brownBadlyScaledLBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return brownBadlyScaledLBFGSAnalyticLineResult{calls: calls, end: brownBadlyScaledLBFGSAnalyticSearchOutOfBudget}
 		}
-		brownBadlyScaledLBFGSAnalyticMoveTo(xt, x, t, d)
+		brownBadlyScaledLBFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := brownBadlyScaledLBFGSAnalyticLinePoint{step: t, value: BrownBadlyScaled(xt)}
 		calls++
 		previous := low
@@ -729,8 +801,7 @@ func brownBadlyScaledLBFGSAnalyticLineSearch(x *[2]float64, fx float64, d *[2]fl
 			if calls+brownBadlyScaledLBFGSAnalyticDerivativeCost > budget {
 				return brownBadlyScaledLBFGSAnalyticLineResult{calls: calls, end: brownBadlyScaledLBFGSAnalyticSearchOutOfBudget}
 			}
-			brownBadlyScaledLBFGSAnalyticDerivative(xt, current.value, gt, diffs)
-			calls += brownBadlyScaledLBFGSAnalyticDerivativeCost
+			calls += brownBadlyScaledLBFGSAnalyticDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = brownBadlyScaledLBFGSAnalyticDot(gt, d), true
 			switch {
 			case !brownBadlyScaledLBFGSAnalyticFinite(current.slope):
@@ -741,18 +812,22 @@ func brownBadlyScaledLBFGSAnalyticLineSearch(x *[2]float64, fx float64, d *[2]fl
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return brownBadlyScaledLBFGSAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: brownBadlyScaledLBFGSAnalyticSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = brownBadlyScaledLBFGSAnalyticZoomTrial(&low, &high)
-		} else {
-			t = brownBadlyScaledLBFGSAnalyticExpandTrial(&previous, &current)
+		} else if t = brownBadlyScaledLBFGSAnalyticExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return brownBadlyScaledLBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return brownBadlyScaledLBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return brownBadlyScaledLBFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: brownBadlyScaledLBFGSAnalyticSearchExhausted}
 }
@@ -839,6 +914,11 @@ func brownBadlyScaledLBFGSAnalyticFaithfulStep(x, xt, d *[2]float64, t float64) 
 	return true
 }
 
+// brownBadlyScaledLBFGSAnalyticStepCap: without bounds a step may be as long as the search wants.
+func brownBadlyScaledLBFGSAnalyticStepCap(x, d *[2]float64, tiny float64, b *brownBadlyScaledLBFGSAnalyticBox) float64 {
+	return math.Inf(1)
+}
+
 // brownBadlyScaledLBFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -863,10 +943,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func brownBadlyScaledLBFGSAnalyticAcceptLow(x, d *[2]float64, low *brownBadlyScaledLBFGSAnalyticLinePoint, lowGradient *[2]float64, calls int, xt, gt *[2]float64) brownBadlyScaledLBFGSAnalyticLineResult {
-	brownBadlyScaledLBFGSAnalyticMoveTo(xt, x, low.step, d)
+func brownBadlyScaledLBFGSAnalyticAcceptLow(x, d *[2]float64, low *brownBadlyScaledLBFGSAnalyticLinePoint, lowGradient *[2]float64, calls int, xt, gt *[2]float64, diffs *brownBadlyScaledLBFGSAnalyticDifferences) brownBadlyScaledLBFGSAnalyticLineResult {
+	brownBadlyScaledLBFGSAnalyticTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return brownBadlyScaledLBFGSAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: brownBadlyScaledLBFGSAnalyticSearchAccepted}
+}
+
+// brownBadlyScaledLBFGSAnalyticTrialPoint is x + t·d.
+func brownBadlyScaledLBFGSAnalyticTrialPoint(out, x *[2]float64, t float64, d *[2]float64, b *brownBadlyScaledLBFGSAnalyticBox) {
+	brownBadlyScaledLBFGSAnalyticMoveTo(out, x, t, d)
 }
 
 // brownBadlyScaledLBFGSAnalyticMoveTo sets out = x + t·d.
@@ -921,21 +1006,6 @@ func brownBadlyScaledLBFGSAnalyticModelMinimizer(a, b *brownBadlyScaledLBFGSAnal
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, brownBadlyScaledLBFGSAnalyticFinite(t)
-}
-
-// brownBadlyScaledLBFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func brownBadlyScaledLBFGSAnalyticClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // brownBadlyScaledLBFGSAnalyticExpandTrial picks a larger trial after current met sufficient decrease

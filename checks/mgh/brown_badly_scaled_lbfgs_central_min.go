@@ -88,6 +88,9 @@ func BrownBadlyScaledLBFGSCentralDefaultLimits() BrownBadlyScaledLBFGSCentralLim
 	}
 }
 
+// brownBadlyScaledLBFGSCentralBox is empty: mgh.toml sets no bounds on BrownBadlyScaledLBFGSCentral.
+type brownBadlyScaledLBFGSCentralBox struct{}
+
 // BrownBadlyScaledLBFGSCentral minimizes BrownBadlyScaled from x0, as mgh.toml specifies.
 //
 // Direction lbfgs: limited-memory BFGS: the last `memory` pairs, two-loop recursion (2·memory·dim numbers).
@@ -105,7 +108,7 @@ func BrownBadlyScaledLBFGSCentral(x0 [2]float64) BrownBadlyScaledLBFGSCentralRes
 
 // BrownBadlyScaledLBFGSCentralWithLimits is BrownBadlyScaledLBFGSCentral with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func BrownBadlyScaledLBFGSCentralWithLimits(x0 [2]float64, limits BrownBadlyScaledLBFGSCentralLimits) BrownBadlyScaledLBFGSCentralResult {
-	out := brownBadlyScaledLBFGSCentralMinimize(x0, limits)
+	out := brownBadlyScaledLBFGSCentralMinimize(x0, limits, brownBadlyScaledLBFGSCentralBox{})
 	return BrownBadlyScaledLBFGSCentralResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -159,27 +162,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func brownBadlyScaledLBFGSCentralMinimize(x0 [2]float64, lim BrownBadlyScaledLBFGSCentralLimits) brownBadlyScaledLBFGSCentralOutcome {
-	out := brownBadlyScaledLBFGSCentralOutcome{x: x0, status: BrownBadlyScaledLBFGSCentralOutOfEvaluations, gradient: math.NaN()}
+func brownBadlyScaledLBFGSCentralMinimize(x0 [2]float64, lim BrownBadlyScaledLBFGSCentralLimits, bounds brownBadlyScaledLBFGSCentralBox) brownBadlyScaledLBFGSCentralOutcome {
+	x := x0
+	brownBadlyScaledLBFGSCentralEnterBox(&x, &bounds)
+	out := brownBadlyScaledLBFGSCentralOutcome{x: x, status: BrownBadlyScaledLBFGSCentralOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := BrownBadlyScaled(&x)
 	out.f, out.evaluations = fx, 1
 	if !brownBadlyScaledLBFGSCentralFinite(fx) || !brownBadlyScaledLBFGSCentralFiniteVec(&x) {
 		out.status = BrownBadlyScaledLBFGSCentralNonFiniteStart
 		return out
 	}
-	var diffs brownBadlyScaledLBFGSCentralDifferences
+	diffs := brownBadlyScaledLBFGSCentralDifferences{bounds: bounds}
 	calls, ok := brownBadlyScaledLBFGSCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+brownBadlyScaledLBFGSCentralDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [2]float64
-	brownBadlyScaledLBFGSCentralDerivative(&x, fx, &g, &diffs)
-	out.evaluations += brownBadlyScaledLBFGSCentralDerivativeCost
+	out.evaluations += brownBadlyScaledLBFGSCentralDerivative(&x, fx, &g, &diffs)
 
 	if !brownBadlyScaledLBFGSCentralFiniteVec(&g) {
 		out.status = BrownBadlyScaledLBFGSCentralNonFiniteGradient
@@ -212,7 +215,7 @@ func brownBadlyScaledLBFGSCentralMinimize(x0 [2]float64, lim BrownBadlyScaledLBF
 		case !confirmed:
 			brownBadlyScaledLBFGSCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := brownBadlyScaledLBFGSCentralGradientMeasure(&g, &e, &x, fx)
+		measure, floor := brownBadlyScaledLBFGSCentralStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, brownBadlyScaledLBFGSCentralLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -251,16 +254,17 @@ func brownBadlyScaledLBFGSCentralMinimize(x0 [2]float64, lim BrownBadlyScaledLBF
 			if rises >= 8 {
 				return best.ending(BrownBadlyScaledLBFGSCentralDiverged, out.iterations, out.evaluations)
 			}
+			brownBadlyScaledLBFGSCentralCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(BrownBadlyScaledLBFGSCentralOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		brownBadlyScaledLBFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := brownBadlyScaledLBFGSCentralDot(&g, &d)
 		if !(now < 0) || !brownBadlyScaledLBFGSCentralFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			brownBadlyScaledLBFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = brownBadlyScaledLBFGSCentralDot(&g, &d)
 		}
 		first := float64(brownBadlyScaledLBFGSCentralStepInitial)
@@ -268,7 +272,7 @@ func brownBadlyScaledLBFGSCentralMinimize(x0 [2]float64, lim BrownBadlyScaledLBF
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := brownBadlyScaledLBFGSCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := brownBadlyScaledLBFGSCentralLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := brownBadlyScaledLBFGSCentralLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case brownBadlyScaledLBFGSCentralSearchOutOfBudget:
@@ -304,8 +308,7 @@ func brownBadlyScaledLBFGSCentralMinimize(x0 [2]float64, lim BrownBadlyScaledLBF
 				}
 				return best.ending(BrownBadlyScaledLBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			brownBadlyScaledLBFGSCentralDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += brownBadlyScaledLBFGSCentralDerivativeCost
+			out.evaluations += brownBadlyScaledLBFGSCentralDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		brownBadlyScaledLBFGSCentralDifference(&s, &xt, &x)
@@ -346,6 +349,9 @@ func (o brownBadlyScaledLBFGSCentralOutcome) ending(end BrownBadlyScaledLBFGSCen
 	return o
 }
 
+// brownBadlyScaledLBFGSCentralEnterBox: without bounds every start is inside.
+func brownBadlyScaledLBFGSCentralEnterBox(x *[2]float64, b *brownBadlyScaledLBFGSCentralBox) {}
+
 // brownBadlyScaledLBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -368,15 +374,17 @@ func brownBadlyScaledLBFGSCentralFiniteVec(x *[2]float64) bool {
 	return true
 }
 
-// brownBadlyScaledLBFGSCentralDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// brownBadlyScaledLBFGSCentralDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type brownBadlyScaledLBFGSCentralDifferences struct {
 	ratio     [2]float64
 	curvature [2]float64
 	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see brownBadlyScaledLBFGSCentralRoundingFloor)
+	bounds    brownBadlyScaledLBFGSCentralBox
 }
 
 // brownBadlyScaledLBFGSCentralCalibrate chooses each central-difference interval from the
@@ -398,19 +406,45 @@ func brownBadlyScaledLBFGSCentralCalibrate(x *[2]float64, fx float64, diffs *bro
 	var slope [2]float64
 	scale := brownBadlyScaledLBFGSCentralAbs(fx)
 	quarter := brownBadlyScaledLBFGSCentralSquareRoot(brownBadlyScaledLBFGSCentralSquareRoot(brownBadlyScaledLBFGSCentralUnitRoundoff)) // u^(1/4)
+	calls := 0
 	for i := range probe {
-		if 4*(i+1) > budget {
-			return 4 * i, false
+		if calls+4 > budget {
+			return calls, false
 		}
 		xi := probe[i]
 		bar := quarter * brownBadlyScaledLBFGSCentralLarger(1, brownBadlyScaledLBFGSCentralAbs(xi))
+		lower, upper := brownBadlyScaledLBFGSCentralCoordinateRange(i, diffs)
+		if xi+2*bar > upper || xi-2*bar < lower {
+			// At a bound: three probes on the side with room, at h, 2h
+			// and 3h, for f‴ ≈ (f(3h) − 3f(2h) + 3f(h) − f(0))/h³ (the
+			// third forward difference).
+			h := brownBadlyScaledLBFGSCentralOneSide(xi, bar, 3, lower, upper)
+			if h == 0 {
+				continue // fixed by equal bounds
+			}
+			var f [3]float64
+			for k := range f {
+				probe[i], _ = brownBadlyScaledLBFGSCentralProbeStep(xi, float64(k+1)*h, lower, upper)
+				f[k] = BrownBadlyScaled(&probe)
+				scale = brownBadlyScaledLBFGSCentralLarger(scale, brownBadlyScaledLBFGSCentralMagnitude(f[k]))
+			}
+			probe[i] = xi
+			calls += 3
+			if brownBadlyScaledLBFGSCentralFinite(f[0]) && brownBadlyScaledLBFGSCentralFinite(f[1]) && brownBadlyScaledLBFGSCentralFinite(f[2]) {
+				diffs.curvature[i] = brownBadlyScaledLBFGSCentralAbs(f[2]-3*f[1]+3*f[0]-fx) / brownBadlyScaledLBFGSCentralAbs(h*h*h)
+				diffs.second[i] = brownBadlyScaledLBFGSCentralAbs(fx-2*f[0]+f[1]) / (h * h)
+				slope[i] = (-3*fx + 4*f[0] - f[1]) / (2 * h)
+			}
+			continue
+		}
 		var f [4]float64
 		for k, m := range [4]float64{2, 1, -1, -2} {
-			probe[i], _ = brownBadlyScaledLBFGSCentralProbeStep(xi, m*bar)
+			probe[i], _ = brownBadlyScaledLBFGSCentralProbeStep(xi, m*bar, lower, upper)
 			f[k] = BrownBadlyScaled(&probe)
 			scale = brownBadlyScaledLBFGSCentralLarger(scale, brownBadlyScaledLBFGSCentralMagnitude(f[k]))
 		}
 		probe[i] = xi
+		calls += 4
 		if brownBadlyScaledLBFGSCentralFinite(f[0]) && brownBadlyScaledLBFGSCentralFinite(f[1]) && brownBadlyScaledLBFGSCentralFinite(f[2]) && brownBadlyScaledLBFGSCentralFinite(f[3]) {
 			diffs.curvature[i] = brownBadlyScaledLBFGSCentralAbs(f[0]-2*f[1]+2*f[2]-f[3]) / (2 * bar * bar * bar)
 			diffs.second[i] = brownBadlyScaledLBFGSCentralAbs(f[1]-2*fx+f[2]) / (bar * bar)
@@ -429,7 +463,7 @@ func brownBadlyScaledLBFGSCentralCalibrate(x *[2]float64, fx float64, diffs *bro
 		diffs.ratio[i] = brownBadlyScaledLBFGSCentralClampBetween(h, 64*brownBadlyScaledLBFGSCentralUnitRoundoff*s, bar) / s
 		diffs.curvature[i] = third
 	}
-	return 4 * len(probe), true
+	return calls, true
 }
 
 // brownBadlyScaledLBFGSCentralAbs returns |v|.
@@ -455,10 +489,48 @@ func brownBadlyScaledLBFGSCentralLarger(a, b float64) float64 {
 	return b
 }
 
-// brownBadlyScaledLBFGSCentralProbeStep returns x_i moved by h, and the step actually representable.
-func brownBadlyScaledLBFGSCentralProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// brownBadlyScaledLBFGSCentralCoordinateRange: without bounds any probe is allowed.
+func brownBadlyScaledLBFGSCentralCoordinateRange(i int, diffs *brownBadlyScaledLBFGSCentralDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// brownBadlyScaledLBFGSCentralOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func brownBadlyScaledLBFGSCentralOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
+}
+
+// brownBadlyScaledLBFGSCentralProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func brownBadlyScaledLBFGSCentralProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := brownBadlyScaledLBFGSCentralClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// brownBadlyScaledLBFGSCentralClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func brownBadlyScaledLBFGSCentralClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
 }
 
 // brownBadlyScaledLBFGSCentralMagnitude is |v| for a finite v and 0 otherwise: a probe that fell
@@ -494,42 +566,85 @@ func brownBadlyScaledLBFGSCentralCubeRoot(v float64) float64 {
 	return math.Cbrt(v)
 }
 
-// brownBadlyScaledLBFGSCentralClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func brownBadlyScaledLBFGSCentralClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
-}
-
 // brownBadlyScaledLBFGSCentralDerivative approximates the gradient by central differences,
 //
 //	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),
 //
 // with the intervals brownBadlyScaledLBFGSCentralCalibrate chose, h_i = ratio_i·max(1, |x_i|)
-// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls; fx is
-// not needed.
-func brownBadlyScaledLBFGSCentralDerivative(x *[2]float64, fx float64, g *[2]float64, diffs *brownBadlyScaledLBFGSCentralDifferences) {
+// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls. Where
+// a bound leaves no room on one side, the three-point endpoint formula on
+// the other side takes its place at the same cost (see parabola); a
+// variable fixed by equal bounds costs nothing and gets 0.
+func brownBadlyScaledLBFGSCentralDerivative(x *[2]float64, fx float64, g *[2]float64, diffs *brownBadlyScaledLBFGSCentralDifferences) int {
 	probe := *x
+	calls := 0
 	for i := range probe {
 		xi := probe[i]
-		h := diffs.ratio[i] * brownBadlyScaledLBFGSCentralLarger(1, brownBadlyScaledLBFGSCentralAbs(xi))
-		up, _ := brownBadlyScaledLBFGSCentralProbeStep(xi, h)
-		down, _ := brownBadlyScaledLBFGSCentralProbeStep(xi, -h)
-		probe[i] = up
-		fUp := BrownBadlyScaled(&probe)
-		probe[i] = down
-		fDown := BrownBadlyScaled(&probe)
-		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
-		probe[i] = xi
+		h, oneSided := brownBadlyScaledLBFGSCentralCentralInterval(x, i, diffs)
+		lower, upper := brownBadlyScaledLBFGSCentralCoordinateRange(i, diffs)
+		switch {
+		case h == 0:
+			g[i] = 0 // fixed by equal bounds
+			continue
+		case oneSided:
+			g[i], _, _ = brownBadlyScaledLBFGSCentralSidedProbes(&probe, i, fx, h, lower, upper) // the three-point endpoint formula
+		default:
+			up, _ := brownBadlyScaledLBFGSCentralProbeStep(xi, h, lower, upper)
+			down, _ := brownBadlyScaledLBFGSCentralProbeStep(xi, -h, lower, upper)
+			probe[i] = up
+			fUp := BrownBadlyScaled(&probe)
+			probe[i] = down
+			fDown := BrownBadlyScaled(&probe)
+			g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+			probe[i] = xi
+		}
+		calls += 2
 	}
+	return calls
+}
+
+// brownBadlyScaledLBFGSCentralCentralInterval is the interval of coordinate i at x, ratio_i·max(1,
+// |x_i|), and whether the box leaves room for probes on both sides; when
+// it does not, the interval is signed towards the side with room for
+// probes at h and 2h, and shortened where the box is narrower than that
+// (see brownBadlyScaledLBFGSCentralOneSide).
+func brownBadlyScaledLBFGSCentralCentralInterval(x *[2]float64, i int, diffs *brownBadlyScaledLBFGSCentralDifferences) (h float64, oneSided bool) {
+	lower, upper := brownBadlyScaledLBFGSCentralCoordinateRange(i, diffs)
+	h = diffs.ratio[i] * brownBadlyScaledLBFGSCentralLarger(1, brownBadlyScaledLBFGSCentralAbs(x[i]))
+	if x[i]+h <= upper && x[i]-h >= lower {
+		return h, false
+	}
+	return brownBadlyScaledLBFGSCentralOneSide(x[i], h, 2, lower, upper), true
+}
+
+// brownBadlyScaledLBFGSCentralSidedProbes evaluates f at x moved along coordinate i by h and by 2h,
+// kept within [lower, upper], and returns the slope and second derivative
+// of the parabola through them and (x, fx) (see parabola), and the larger
+// magnitude of the two values.
+func brownBadlyScaledLBFGSCentralSidedProbes(probe *[2]float64, i int, fx, h, lower, upper float64) (slope, second, size float64) {
+	xi := probe[i]
+	near, a := brownBadlyScaledLBFGSCentralProbeStep(xi, h, lower, upper)
+	far, b := brownBadlyScaledLBFGSCentralProbeStep(xi, 2*h, lower, upper)
+	probe[i] = near
+	fNear := BrownBadlyScaled(probe)
+	probe[i] = far
+	fFar := BrownBadlyScaled(probe)
+	probe[i] = xi
+	slope, second = brownBadlyScaledLBFGSCentralParabola(fx, a, fNear, b, fFar)
+	return slope, second, brownBadlyScaledLBFGSCentralLarger(brownBadlyScaledLBFGSCentralMagnitude(fNear), brownBadlyScaledLBFGSCentralMagnitude(fFar))
+}
+
+// brownBadlyScaledLBFGSCentralParabola returns the first and second derivatives at 0 of the parabola
+// through (0, f0), (a, fa) and (b, fb), for probes on one side of a bound.
+// With b = 2a they are the three-point endpoint formulas
+// f′ ≈ (−3f0 + 4fa − fb)/(2a), error a²|f‴|/3, and
+// f″ ≈ (f0 − 2fa + fb)/a² (Burden & Faires, Numerical Analysis, §4.1
+// and §4.1's second-derivative formulas, from memory); written for unequal
+// a and b, so that the representable steps can be used.
+func brownBadlyScaledLBFGSCentralParabola(f0, a, fa, b, fb float64) (slope, second float64) {
+	slope = -(a+b)/(a*b)*f0 + b/(a*(b-a))*fa - a/(b*(b-a))*fb
+	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
+	return slope, second
 }
 
 // brownBadlyScaledLBFGSCentralDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
@@ -694,13 +809,13 @@ func brownBadlyScaledLBFGSCentralConfirmGradient(x *[2]float64, fx float64, g, e
 		wide.ratio[i] *= 2
 	}
 	var doubled [2]float64
-	brownBadlyScaledLBFGSCentralDerivative(x, fx, g, diffs)
-	brownBadlyScaledLBFGSCentralDerivative(x, fx, &doubled, &wide)
+	calls += brownBadlyScaledLBFGSCentralDerivative(x, fx, g, diffs)
+	calls += brownBadlyScaledLBFGSCentralDerivative(x, fx, &doubled, &wide)
 	brownBadlyScaledLBFGSCentralGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * brownBadlyScaledLBFGSCentralAbs(g[i]-doubled[i])
 	}
-	return calls + 2*brownBadlyScaledLBFGSCentralDerivativeCost, true
+	return calls, true
 }
 
 // brownBadlyScaledLBFGSCentralGradientError bounds each central difference's error by twice its
@@ -710,8 +825,16 @@ func brownBadlyScaledLBFGSCentralConfirmGradient(x *[2]float64, fx float64, g, e
 func brownBadlyScaledLBFGSCentralGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *brownBadlyScaledLBFGSCentralDifferences) {
 	noise := brownBadlyScaledLBFGSCentralNoiseLevel(x, fx, g)
 	for i := range e {
-		h := diffs.ratio[i] * brownBadlyScaledLBFGSCentralLarger(1, brownBadlyScaledLBFGSCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		h, oneSided := brownBadlyScaledLBFGSCentralCentralInterval(x, i, diffs)
+		h = brownBadlyScaledLBFGSCentralAbs(h)
+		switch {
+		case h == 0:
+			e[i] = 0 // fixed by equal bounds
+		case oneSided:
+			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+		default:
+			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		}
 	}
 }
 
@@ -733,6 +856,11 @@ func brownBadlyScaledLBFGSCentralRoundingFloor(x, g, e *[2]float64, diffs *brown
 // calibration, which brownBadlyScaledLBFGSCentralConfirmGradient has just made at x.
 func brownBadlyScaledLBFGSCentralDiagonalCurvature(x, g *[2]float64, diffs *brownBadlyScaledLBFGSCentralDifferences, h *[2]float64) {
 	*h = diffs.second
+}
+
+// brownBadlyScaledLBFGSCentralStationarity measures the gradient itself.
+func brownBadlyScaledLBFGSCentralStationarity(g, e, x *[2]float64, fx float64, b *brownBadlyScaledLBFGSCentralBox) (measure, floor float64) {
+	return brownBadlyScaledLBFGSCentralGradientMeasure(g, e, x, fx)
 }
 
 // brownBadlyScaledLBFGSCentralGradientMeasure is the scale-free measure
@@ -768,6 +896,15 @@ func brownBadlyScaledLBFGSCentralStepWithin(s, x *[2]float64, tol float64) bool 
 	return true
 }
 
+// brownBadlyScaledLBFGSCentralCurvaturePair: without bounds the pair is used as it is.
+func brownBadlyScaledLBFGSCentralCurvaturePair(s, y, x *[2]float64, b *brownBadlyScaledLBFGSCentralBox) {
+}
+
+// brownBadlyScaledLBFGSCentralSearchDirection is the direction's own.
+func brownBadlyScaledLBFGSCentralSearchDirection(dir *brownBadlyScaledLBFGSCentralDirection, x, g, d *[2]float64, b *brownBadlyScaledLBFGSCentralBox) {
+	dir.compute(g, d)
+}
+
 // brownBadlyScaledLBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func brownBadlyScaledLBFGSCentralTinyStep(x, d *[2]float64, tol float64) float64 {
@@ -795,7 +932,10 @@ func brownBadlyScaledLBFGSCentralTinyStep(x, d *[2]float64, tol float64) float64
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (brownBadlyScaledLBFGSCentralStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -804,13 +944,17 @@ func brownBadlyScaledLBFGSCentralTinyStep(x, d *[2]float64, tol float64) float64
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func brownBadlyScaledLBFGSCentralLineSearch(x *[2]float64, fx float64, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *brownBadlyScaledLBFGSCentralDifferences) brownBadlyScaledLBFGSCentralLineResult {
+func brownBadlyScaledLBFGSCentralLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *brownBadlyScaledLBFGSCentralDifferences) brownBadlyScaledLBFGSCentralLineResult {
 	low := brownBadlyScaledLBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high brownBadlyScaledLBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                            // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend brownBadlyScaledLBFGSCentralRiseTrend // of the trials failing sufficient decrease
+	var trend brownBadlyScaledLBFGSCentralRiseTrend                         // of the trials failing sufficient decrease
+	limit := brownBadlyScaledLBFGSCentralStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < brownBadlyScaledLBFGSCentralStepTrials; trial++ {
 		if bracketed && brownBadlyScaledLBFGSCentralAbs(high.step-low.step) <= tiny {
@@ -820,12 +964,12 @@ func brownBadlyScaledLBFGSCentralLineSearch(x *[2]float64, fx float64, d *[2]flo
 			if low.step == 0 {
 				return brownBadlyScaledLBFGSCentralLineResult{calls: calls, rising: trend.contradicts(), end: brownBadlyScaledLBFGSCentralTinyOrExhausted(brownBadlyScaledLBFGSCentralFinite(high.value))}
 			}
-			return brownBadlyScaledLBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return brownBadlyScaledLBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return brownBadlyScaledLBFGSCentralLineResult{calls: calls, end: brownBadlyScaledLBFGSCentralSearchOutOfBudget}
 		}
-		brownBadlyScaledLBFGSCentralMoveTo(xt, x, t, d)
+		brownBadlyScaledLBFGSCentralTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := brownBadlyScaledLBFGSCentralLinePoint{step: t, value: BrownBadlyScaled(xt)}
 		calls++
 		previous := low
@@ -836,8 +980,7 @@ func brownBadlyScaledLBFGSCentralLineSearch(x *[2]float64, fx float64, d *[2]flo
 			if calls+brownBadlyScaledLBFGSCentralDerivativeCost > budget {
 				return brownBadlyScaledLBFGSCentralLineResult{calls: calls, end: brownBadlyScaledLBFGSCentralSearchOutOfBudget}
 			}
-			brownBadlyScaledLBFGSCentralDerivative(xt, current.value, gt, diffs)
-			calls += brownBadlyScaledLBFGSCentralDerivativeCost
+			calls += brownBadlyScaledLBFGSCentralDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = brownBadlyScaledLBFGSCentralDot(gt, d), true
 			switch {
 			case !brownBadlyScaledLBFGSCentralFinite(current.slope):
@@ -848,18 +991,22 @@ func brownBadlyScaledLBFGSCentralLineSearch(x *[2]float64, fx float64, d *[2]flo
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return brownBadlyScaledLBFGSCentralLineResult{step: t, value: current.value, calls: calls, gradient: true, end: brownBadlyScaledLBFGSCentralSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = brownBadlyScaledLBFGSCentralZoomTrial(&low, &high)
-		} else {
-			t = brownBadlyScaledLBFGSCentralExpandTrial(&previous, &current)
+		} else if t = brownBadlyScaledLBFGSCentralExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return brownBadlyScaledLBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return brownBadlyScaledLBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return brownBadlyScaledLBFGSCentralLineResult{calls: calls, rising: trend.contradicts(), end: brownBadlyScaledLBFGSCentralSearchExhausted}
 }
@@ -946,6 +1093,11 @@ func brownBadlyScaledLBFGSCentralFaithfulStep(x, xt, d *[2]float64, t float64) b
 	return true
 }
 
+// brownBadlyScaledLBFGSCentralStepCap: without bounds a step may be as long as the search wants.
+func brownBadlyScaledLBFGSCentralStepCap(x, d *[2]float64, tiny float64, b *brownBadlyScaledLBFGSCentralBox) float64 {
+	return math.Inf(1)
+}
+
 // brownBadlyScaledLBFGSCentralTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -970,10 +1122,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func brownBadlyScaledLBFGSCentralAcceptLow(x, d *[2]float64, low *brownBadlyScaledLBFGSCentralLinePoint, lowGradient *[2]float64, calls int, xt, gt *[2]float64) brownBadlyScaledLBFGSCentralLineResult {
-	brownBadlyScaledLBFGSCentralMoveTo(xt, x, low.step, d)
+func brownBadlyScaledLBFGSCentralAcceptLow(x, d *[2]float64, low *brownBadlyScaledLBFGSCentralLinePoint, lowGradient *[2]float64, calls int, xt, gt *[2]float64, diffs *brownBadlyScaledLBFGSCentralDifferences) brownBadlyScaledLBFGSCentralLineResult {
+	brownBadlyScaledLBFGSCentralTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return brownBadlyScaledLBFGSCentralLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: brownBadlyScaledLBFGSCentralSearchAccepted}
+}
+
+// brownBadlyScaledLBFGSCentralTrialPoint is x + t·d.
+func brownBadlyScaledLBFGSCentralTrialPoint(out, x *[2]float64, t float64, d *[2]float64, b *brownBadlyScaledLBFGSCentralBox) {
+	brownBadlyScaledLBFGSCentralMoveTo(out, x, t, d)
 }
 
 // brownBadlyScaledLBFGSCentralMoveTo sets out = x + t·d.

@@ -88,6 +88,9 @@ func BrownDennisBFGSAnalyticDefaultLimits() BrownDennisBFGSAnalyticLimits {
 	}
 }
 
+// brownDennisBFGSAnalyticBox is empty: mgh.toml sets no bounds on BrownDennisBFGSAnalytic.
+type brownDennisBFGSAnalyticBox struct{}
+
 // BrownDennisBFGSAnalytic minimizes BrownDennis from x0, as mgh.toml specifies.
 //
 // Direction bfgs: BFGS quasi-Newton with a dense inverse-Hessian approximation (dim² numbers).
@@ -105,7 +108,7 @@ func BrownDennisBFGSAnalytic(x0 [4]float64) BrownDennisBFGSAnalyticResult {
 
 // BrownDennisBFGSAnalyticWithLimits is BrownDennisBFGSAnalytic with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func BrownDennisBFGSAnalyticWithLimits(x0 [4]float64, limits BrownDennisBFGSAnalyticLimits) BrownDennisBFGSAnalyticResult {
-	out := brownDennisBFGSAnalyticMinimize(x0, limits)
+	out := brownDennisBFGSAnalyticMinimize(x0, limits, brownDennisBFGSAnalyticBox{})
 	return BrownDennisBFGSAnalyticResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func brownDennisBFGSAnalyticMinimize(x0 [4]float64, lim BrownDennisBFGSAnalyticLimits) brownDennisBFGSAnalyticOutcome {
-	out := brownDennisBFGSAnalyticOutcome{x: x0, status: BrownDennisBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
+func brownDennisBFGSAnalyticMinimize(x0 [4]float64, lim BrownDennisBFGSAnalyticLimits, bounds brownDennisBFGSAnalyticBox) brownDennisBFGSAnalyticOutcome {
+	x := x0
+	brownDennisBFGSAnalyticEnterBox(&x, &bounds)
+	out := brownDennisBFGSAnalyticOutcome{x: x, status: BrownDennisBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := BrownDennis(&x)
 	out.f, out.evaluations = fx, 1
 	if !brownDennisBFGSAnalyticFinite(fx) || !brownDennisBFGSAnalyticFiniteVec(&x) {
 		out.status = BrownDennisBFGSAnalyticNonFiniteStart
 		return out
 	}
-	var diffs brownDennisBFGSAnalyticDifferences
+	diffs := brownDennisBFGSAnalyticDifferences{bounds: bounds}
 	calls, ok := brownDennisBFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+brownDennisBFGSAnalyticDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [4]float64
-	brownDennisBFGSAnalyticDerivative(&x, fx, &g, &diffs)
-	out.evaluations += brownDennisBFGSAnalyticDerivativeCost
+	out.evaluations += brownDennisBFGSAnalyticDerivative(&x, fx, &g, &diffs)
 
 	if !brownDennisBFGSAnalyticFiniteVec(&g) {
 		out.status = BrownDennisBFGSAnalyticNonFiniteGradient
@@ -211,7 +214,7 @@ func brownDennisBFGSAnalyticMinimize(x0 [4]float64, lim BrownDennisBFGSAnalyticL
 		case !confirmed:
 			brownDennisBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := brownDennisBFGSAnalyticGradientMeasure(&g, &e, &x, fx)
+		measure, floor := brownDennisBFGSAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, brownDennisBFGSAnalyticLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func brownDennisBFGSAnalyticMinimize(x0 [4]float64, lim BrownDennisBFGSAnalyticL
 			if rises >= 8 {
 				return best.ending(BrownDennisBFGSAnalyticDiverged, out.iterations, out.evaluations)
 			}
+			brownDennisBFGSAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(BrownDennisBFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		brownDennisBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := brownDennisBFGSAnalyticDot(&g, &d)
 		if !(now < 0) || !brownDennisBFGSAnalyticFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			brownDennisBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = brownDennisBFGSAnalyticDot(&g, &d)
 		}
 		first := float64(brownDennisBFGSAnalyticStepInitial)
@@ -267,7 +271,7 @@ func brownDennisBFGSAnalyticMinimize(x0 [4]float64, lim BrownDennisBFGSAnalyticL
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := brownDennisBFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := brownDennisBFGSAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := brownDennisBFGSAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case brownDennisBFGSAnalyticSearchOutOfBudget:
@@ -303,8 +307,7 @@ func brownDennisBFGSAnalyticMinimize(x0 [4]float64, lim BrownDennisBFGSAnalyticL
 				}
 				return best.ending(BrownDennisBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			brownDennisBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += brownDennisBFGSAnalyticDerivativeCost
+			out.evaluations += brownDennisBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		brownDennisBFGSAnalyticDifference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o brownDennisBFGSAnalyticOutcome) ending(end BrownDennisBFGSAnalyticStatus
 	return o
 }
 
+// brownDennisBFGSAnalyticEnterBox: without bounds every start is inside.
+func brownDennisBFGSAnalyticEnterBox(x *[4]float64, b *brownDennisBFGSAnalyticBox) {}
+
 // brownDennisBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func brownDennisBFGSAnalyticFiniteVec(x *[4]float64) bool {
 	return true
 }
 
-// brownDennisBFGSAnalyticDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// brownDennisBFGSAnalyticDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type brownDennisBFGSAnalyticDifferences struct {
 	ratio     [4]float64
 	curvature [4]float64
 	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see brownDennisBFGSAnalyticRoundingFloor)
+	bounds    brownDennisBFGSAnalyticBox
 }
 
 // brownDennisBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
@@ -384,8 +392,9 @@ func brownDennisBFGSAnalyticCalibrate(x *[4]float64, fx float64, diffs *brownDen
 }
 
 // brownDennisBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func brownDennisBFGSAnalyticDerivative(x *[4]float64, fx float64, g *[4]float64, diffs *brownDennisBFGSAnalyticDifferences) {
+func brownDennisBFGSAnalyticDerivative(x *[4]float64, fx float64, g *[4]float64, diffs *brownDennisBFGSAnalyticDifferences) int {
 	BrownDennisGrad(x, g)
+	return 0
 }
 
 // brownDennisBFGSAnalyticDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
@@ -525,13 +534,13 @@ func brownDennisBFGSAnalyticConfirmGradient(x *[4]float64, fx float64, g, e *[4]
 		wide.ratio[i] *= 2
 	}
 	var doubled [4]float64
-	brownDennisBFGSAnalyticDerivative(x, fx, g, diffs)
-	brownDennisBFGSAnalyticDerivative(x, fx, &doubled, &wide)
+	calls += brownDennisBFGSAnalyticDerivative(x, fx, g, diffs)
+	calls += brownDennisBFGSAnalyticDerivative(x, fx, &doubled, &wide)
 	brownDennisBFGSAnalyticGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * brownDennisBFGSAnalyticAbs(g[i]-doubled[i])
 	}
-	return calls + 2*brownDennisBFGSAnalyticDerivativeCost, true
+	return calls, true
 }
 
 // brownDennisBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
@@ -573,18 +582,60 @@ func brownDennisBFGSAnalyticDiagonalCurvature(x, g *[4]float64, diffs *brownDenn
 	var moved [4]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := brownDennisBFGSAnalyticProbeStep(xi, brownDennisBFGSAnalyticSquareRoot(brownDennisBFGSAnalyticUnitRoundoff)*brownDennisBFGSAnalyticLarger(1, brownDennisBFGSAnalyticAbs(xi)))
-		probe[i] = up
-		BrownDennisGrad(&probe, &moved)
-		h[i] = brownDennisBFGSAnalyticAbs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := brownDennisBFGSAnalyticCoordinateRange(i, diffs)
+		up, delta := brownDennisBFGSAnalyticProbeStep(xi, brownDennisBFGSAnalyticOneSide(xi, brownDennisBFGSAnalyticSquareRoot(brownDennisBFGSAnalyticUnitRoundoff)*brownDennisBFGSAnalyticLarger(1, brownDennisBFGSAnalyticAbs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			BrownDennisGrad(&probe, &moved)
+			h[i] = brownDennisBFGSAnalyticAbs(moved[i]-g[i]) / brownDennisBFGSAnalyticAbs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// brownDennisBFGSAnalyticProbeStep returns x_i moved by h, and the step actually representable.
-func brownDennisBFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// brownDennisBFGSAnalyticCoordinateRange: without bounds any probe is allowed.
+func brownDennisBFGSAnalyticCoordinateRange(i int, diffs *brownDennisBFGSAnalyticDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// brownDennisBFGSAnalyticProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func brownDennisBFGSAnalyticProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := brownDennisBFGSAnalyticClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// brownDennisBFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func brownDennisBFGSAnalyticClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// brownDennisBFGSAnalyticOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func brownDennisBFGSAnalyticOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // brownDennisBFGSAnalyticSquareRoot returns √v.
@@ -600,6 +651,11 @@ func brownDennisBFGSAnalyticLarger(a, b float64) float64 {
 		return a
 	}
 	return b
+}
+
+// brownDennisBFGSAnalyticStationarity measures the gradient itself.
+func brownDennisBFGSAnalyticStationarity(g, e, x *[4]float64, fx float64, b *brownDennisBFGSAnalyticBox) (measure, floor float64) {
+	return brownDennisBFGSAnalyticGradientMeasure(g, e, x, fx)
 }
 
 // brownDennisBFGSAnalyticGradientMeasure is the scale-free measure
@@ -635,6 +691,14 @@ func brownDennisBFGSAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
 	return true
 }
 
+// brownDennisBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
+func brownDennisBFGSAnalyticCurvaturePair(s, y, x *[4]float64, b *brownDennisBFGSAnalyticBox) {}
+
+// brownDennisBFGSAnalyticSearchDirection is the direction's own.
+func brownDennisBFGSAnalyticSearchDirection(dir *brownDennisBFGSAnalyticDirection, x, g, d *[4]float64, b *brownDennisBFGSAnalyticBox) {
+	dir.compute(g, d)
+}
+
 // brownDennisBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func brownDennisBFGSAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
@@ -662,7 +726,10 @@ func brownDennisBFGSAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (brownDennisBFGSAnalyticStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -671,13 +738,17 @@ func brownDennisBFGSAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func brownDennisBFGSAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *brownDennisBFGSAnalyticDifferences) brownDennisBFGSAnalyticLineResult {
+func brownDennisBFGSAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *brownDennisBFGSAnalyticDifferences) brownDennisBFGSAnalyticLineResult {
 	low := brownDennisBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high brownDennisBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                       // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend brownDennisBFGSAnalyticRiseTrend // of the trials failing sufficient decrease
+	var trend brownDennisBFGSAnalyticRiseTrend                         // of the trials failing sufficient decrease
+	limit := brownDennisBFGSAnalyticStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < brownDennisBFGSAnalyticStepTrials; trial++ {
 		if bracketed && brownDennisBFGSAnalyticAbs(high.step-low.step) <= tiny {
@@ -687,12 +758,12 @@ func brownDennisBFGSAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64,
 			if low.step == 0 {
 				return brownDennisBFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: brownDennisBFGSAnalyticTinyOrExhausted(brownDennisBFGSAnalyticFinite(high.value))}
 			}
-			return brownDennisBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return brownDennisBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return brownDennisBFGSAnalyticLineResult{calls: calls, end: brownDennisBFGSAnalyticSearchOutOfBudget}
 		}
-		brownDennisBFGSAnalyticMoveTo(xt, x, t, d)
+		brownDennisBFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := brownDennisBFGSAnalyticLinePoint{step: t, value: BrownDennis(xt)}
 		calls++
 		previous := low
@@ -703,8 +774,7 @@ func brownDennisBFGSAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64,
 			if calls+brownDennisBFGSAnalyticDerivativeCost > budget {
 				return brownDennisBFGSAnalyticLineResult{calls: calls, end: brownDennisBFGSAnalyticSearchOutOfBudget}
 			}
-			brownDennisBFGSAnalyticDerivative(xt, current.value, gt, diffs)
-			calls += brownDennisBFGSAnalyticDerivativeCost
+			calls += brownDennisBFGSAnalyticDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = brownDennisBFGSAnalyticDot(gt, d), true
 			switch {
 			case !brownDennisBFGSAnalyticFinite(current.slope):
@@ -715,18 +785,22 @@ func brownDennisBFGSAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64,
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return brownDennisBFGSAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: brownDennisBFGSAnalyticSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = brownDennisBFGSAnalyticZoomTrial(&low, &high)
-		} else {
-			t = brownDennisBFGSAnalyticExpandTrial(&previous, &current)
+		} else if t = brownDennisBFGSAnalyticExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return brownDennisBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return brownDennisBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return brownDennisBFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: brownDennisBFGSAnalyticSearchExhausted}
 }
@@ -813,6 +887,11 @@ func brownDennisBFGSAnalyticFaithfulStep(x, xt, d *[4]float64, t float64) bool {
 	return true
 }
 
+// brownDennisBFGSAnalyticStepCap: without bounds a step may be as long as the search wants.
+func brownDennisBFGSAnalyticStepCap(x, d *[4]float64, tiny float64, b *brownDennisBFGSAnalyticBox) float64 {
+	return math.Inf(1)
+}
+
 // brownDennisBFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -837,10 +916,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func brownDennisBFGSAnalyticAcceptLow(x, d *[4]float64, low *brownDennisBFGSAnalyticLinePoint, lowGradient *[4]float64, calls int, xt, gt *[4]float64) brownDennisBFGSAnalyticLineResult {
-	brownDennisBFGSAnalyticMoveTo(xt, x, low.step, d)
+func brownDennisBFGSAnalyticAcceptLow(x, d *[4]float64, low *brownDennisBFGSAnalyticLinePoint, lowGradient *[4]float64, calls int, xt, gt *[4]float64, diffs *brownDennisBFGSAnalyticDifferences) brownDennisBFGSAnalyticLineResult {
+	brownDennisBFGSAnalyticTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return brownDennisBFGSAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: brownDennisBFGSAnalyticSearchAccepted}
+}
+
+// brownDennisBFGSAnalyticTrialPoint is x + t·d.
+func brownDennisBFGSAnalyticTrialPoint(out, x *[4]float64, t float64, d *[4]float64, b *brownDennisBFGSAnalyticBox) {
+	brownDennisBFGSAnalyticMoveTo(out, x, t, d)
 }
 
 // brownDennisBFGSAnalyticMoveTo sets out = x + t·d.
@@ -895,21 +979,6 @@ func brownDennisBFGSAnalyticModelMinimizer(a, b *brownDennisBFGSAnalyticLinePoin
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, brownDennisBFGSAnalyticFinite(t)
-}
-
-// brownDennisBFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func brownDennisBFGSAnalyticClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // brownDennisBFGSAnalyticExpandTrial picks a larger trial after current met sufficient decrease

@@ -88,6 +88,9 @@ func BrownDennisCGAnalyticDefaultLimits() BrownDennisCGAnalyticLimits {
 	}
 }
 
+// brownDennisCGAnalyticBox is empty: mgh.toml sets no bounds on BrownDennisCGAnalytic.
+type brownDennisCGAnalyticBox struct{}
+
 // BrownDennisCGAnalytic minimizes BrownDennis from x0, as mgh.toml specifies.
 //
 // Direction cg: nonlinear conjugate gradients, Polak–Ribière clipped at zero (PR+), restarted every dim steps.
@@ -105,7 +108,7 @@ func BrownDennisCGAnalytic(x0 [4]float64) BrownDennisCGAnalyticResult {
 
 // BrownDennisCGAnalyticWithLimits is BrownDennisCGAnalytic with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func BrownDennisCGAnalyticWithLimits(x0 [4]float64, limits BrownDennisCGAnalyticLimits) BrownDennisCGAnalyticResult {
-	out := brownDennisCGAnalyticMinimize(x0, limits)
+	out := brownDennisCGAnalyticMinimize(x0, limits, brownDennisCGAnalyticBox{})
 	return BrownDennisCGAnalyticResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func brownDennisCGAnalyticMinimize(x0 [4]float64, lim BrownDennisCGAnalyticLimits) brownDennisCGAnalyticOutcome {
-	out := brownDennisCGAnalyticOutcome{x: x0, status: BrownDennisCGAnalyticOutOfEvaluations, gradient: math.NaN()}
+func brownDennisCGAnalyticMinimize(x0 [4]float64, lim BrownDennisCGAnalyticLimits, bounds brownDennisCGAnalyticBox) brownDennisCGAnalyticOutcome {
+	x := x0
+	brownDennisCGAnalyticEnterBox(&x, &bounds)
+	out := brownDennisCGAnalyticOutcome{x: x, status: BrownDennisCGAnalyticOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := BrownDennis(&x)
 	out.f, out.evaluations = fx, 1
 	if !brownDennisCGAnalyticFinite(fx) || !brownDennisCGAnalyticFiniteVec(&x) {
 		out.status = BrownDennisCGAnalyticNonFiniteStart
 		return out
 	}
-	var diffs brownDennisCGAnalyticDifferences
+	diffs := brownDennisCGAnalyticDifferences{bounds: bounds}
 	calls, ok := brownDennisCGAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+brownDennisCGAnalyticDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [4]float64
-	brownDennisCGAnalyticDerivative(&x, fx, &g, &diffs)
-	out.evaluations += brownDennisCGAnalyticDerivativeCost
+	out.evaluations += brownDennisCGAnalyticDerivative(&x, fx, &g, &diffs)
 
 	if !brownDennisCGAnalyticFiniteVec(&g) {
 		out.status = BrownDennisCGAnalyticNonFiniteGradient
@@ -211,7 +214,7 @@ func brownDennisCGAnalyticMinimize(x0 [4]float64, lim BrownDennisCGAnalyticLimit
 		case !confirmed:
 			brownDennisCGAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := brownDennisCGAnalyticGradientMeasure(&g, &e, &x, fx)
+		measure, floor := brownDennisCGAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, brownDennisCGAnalyticLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func brownDennisCGAnalyticMinimize(x0 [4]float64, lim BrownDennisCGAnalyticLimit
 			if rises >= 8 {
 				return best.ending(BrownDennisCGAnalyticDiverged, out.iterations, out.evaluations)
 			}
+			brownDennisCGAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(BrownDennisCGAnalyticOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		brownDennisCGAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := brownDennisCGAnalyticDot(&g, &d)
 		if !(now < 0) || !brownDennisCGAnalyticFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			brownDennisCGAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = brownDennisCGAnalyticDot(&g, &d)
 		}
 		first := float64(brownDennisCGAnalyticStepInitial)
@@ -267,7 +271,7 @@ func brownDennisCGAnalyticMinimize(x0 [4]float64, lim BrownDennisCGAnalyticLimit
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := brownDennisCGAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := brownDennisCGAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := brownDennisCGAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case brownDennisCGAnalyticSearchOutOfBudget:
@@ -303,8 +307,7 @@ func brownDennisCGAnalyticMinimize(x0 [4]float64, lim BrownDennisCGAnalyticLimit
 				}
 				return best.ending(BrownDennisCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			brownDennisCGAnalyticDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += brownDennisCGAnalyticDerivativeCost
+			out.evaluations += brownDennisCGAnalyticDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		brownDennisCGAnalyticDifference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o brownDennisCGAnalyticOutcome) ending(end BrownDennisCGAnalyticStatus, it
 	return o
 }
 
+// brownDennisCGAnalyticEnterBox: without bounds every start is inside.
+func brownDennisCGAnalyticEnterBox(x *[4]float64, b *brownDennisCGAnalyticBox) {}
+
 // brownDennisCGAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func brownDennisCGAnalyticFiniteVec(x *[4]float64) bool {
 	return true
 }
 
-// brownDennisCGAnalyticDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// brownDennisCGAnalyticDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type brownDennisCGAnalyticDifferences struct {
 	ratio     [4]float64
 	curvature [4]float64
 	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see brownDennisCGAnalyticRoundingFloor)
+	bounds    brownDennisCGAnalyticBox
 }
 
 // brownDennisCGAnalyticCalibrate: an analytic gradient needs no intervals.
@@ -384,8 +392,9 @@ func brownDennisCGAnalyticCalibrate(x *[4]float64, fx float64, diffs *brownDenni
 }
 
 // brownDennisCGAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func brownDennisCGAnalyticDerivative(x *[4]float64, fx float64, g *[4]float64, diffs *brownDennisCGAnalyticDifferences) {
+func brownDennisCGAnalyticDerivative(x *[4]float64, fx float64, g *[4]float64, diffs *brownDennisCGAnalyticDifferences) int {
 	BrownDennisGrad(x, g)
+	return 0
 }
 
 // brownDennisCGAnalyticDirection is nonlinear conjugate gradients with the Polak–Ribière
@@ -517,13 +526,13 @@ func brownDennisCGAnalyticConfirmGradient(x *[4]float64, fx float64, g, e *[4]fl
 		wide.ratio[i] *= 2
 	}
 	var doubled [4]float64
-	brownDennisCGAnalyticDerivative(x, fx, g, diffs)
-	brownDennisCGAnalyticDerivative(x, fx, &doubled, &wide)
+	calls += brownDennisCGAnalyticDerivative(x, fx, g, diffs)
+	calls += brownDennisCGAnalyticDerivative(x, fx, &doubled, &wide)
 	brownDennisCGAnalyticGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * brownDennisCGAnalyticAbs(g[i]-doubled[i])
 	}
-	return calls + 2*brownDennisCGAnalyticDerivativeCost, true
+	return calls, true
 }
 
 // brownDennisCGAnalyticGradientError: the analytic gradient is taken as exact; its error is
@@ -565,23 +574,70 @@ func brownDennisCGAnalyticDiagonalCurvature(x, g *[4]float64, diffs *brownDennis
 	var moved [4]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := brownDennisCGAnalyticProbeStep(xi, brownDennisCGAnalyticSquareRoot(brownDennisCGAnalyticUnitRoundoff)*brownDennisCGAnalyticLarger(1, brownDennisCGAnalyticAbs(xi)))
-		probe[i] = up
-		BrownDennisGrad(&probe, &moved)
-		h[i] = brownDennisCGAnalyticAbs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := brownDennisCGAnalyticCoordinateRange(i, diffs)
+		up, delta := brownDennisCGAnalyticProbeStep(xi, brownDennisCGAnalyticOneSide(xi, brownDennisCGAnalyticSquareRoot(brownDennisCGAnalyticUnitRoundoff)*brownDennisCGAnalyticLarger(1, brownDennisCGAnalyticAbs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			BrownDennisGrad(&probe, &moved)
+			h[i] = brownDennisCGAnalyticAbs(moved[i]-g[i]) / brownDennisCGAnalyticAbs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// brownDennisCGAnalyticProbeStep returns x_i moved by h, and the step actually representable.
-func brownDennisCGAnalyticProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// brownDennisCGAnalyticCoordinateRange: without bounds any probe is allowed.
+func brownDennisCGAnalyticCoordinateRange(i int, diffs *brownDennisCGAnalyticDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// brownDennisCGAnalyticProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func brownDennisCGAnalyticProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := brownDennisCGAnalyticClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// brownDennisCGAnalyticClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func brownDennisCGAnalyticClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// brownDennisCGAnalyticOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func brownDennisCGAnalyticOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // brownDennisCGAnalyticSquareRoot returns √v.
 func brownDennisCGAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// brownDennisCGAnalyticStationarity measures the gradient itself.
+func brownDennisCGAnalyticStationarity(g, e, x *[4]float64, fx float64, b *brownDennisCGAnalyticBox) (measure, floor float64) {
+	return brownDennisCGAnalyticGradientMeasure(g, e, x, fx)
 }
 
 // brownDennisCGAnalyticGradientMeasure is the scale-free measure
@@ -617,6 +673,14 @@ func brownDennisCGAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
 	return true
 }
 
+// brownDennisCGAnalyticCurvaturePair: without bounds the pair is used as it is.
+func brownDennisCGAnalyticCurvaturePair(s, y, x *[4]float64, b *brownDennisCGAnalyticBox) {}
+
+// brownDennisCGAnalyticSearchDirection is the direction's own.
+func brownDennisCGAnalyticSearchDirection(dir *brownDennisCGAnalyticDirection, x, g, d *[4]float64, b *brownDennisCGAnalyticBox) {
+	dir.compute(g, d)
+}
+
 // brownDennisCGAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func brownDennisCGAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
@@ -644,7 +708,10 @@ func brownDennisCGAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (brownDennisCGAnalyticStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -653,13 +720,17 @@ func brownDennisCGAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func brownDennisCGAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *brownDennisCGAnalyticDifferences) brownDennisCGAnalyticLineResult {
+func brownDennisCGAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *brownDennisCGAnalyticDifferences) brownDennisCGAnalyticLineResult {
 	low := brownDennisCGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high brownDennisCGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                     // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend brownDennisCGAnalyticRiseTrend // of the trials failing sufficient decrease
+	var trend brownDennisCGAnalyticRiseTrend                         // of the trials failing sufficient decrease
+	limit := brownDennisCGAnalyticStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < brownDennisCGAnalyticStepTrials; trial++ {
 		if bracketed && brownDennisCGAnalyticAbs(high.step-low.step) <= tiny {
@@ -669,12 +740,12 @@ func brownDennisCGAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64, s
 			if low.step == 0 {
 				return brownDennisCGAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: brownDennisCGAnalyticTinyOrExhausted(brownDennisCGAnalyticFinite(high.value))}
 			}
-			return brownDennisCGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return brownDennisCGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return brownDennisCGAnalyticLineResult{calls: calls, end: brownDennisCGAnalyticSearchOutOfBudget}
 		}
-		brownDennisCGAnalyticMoveTo(xt, x, t, d)
+		brownDennisCGAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := brownDennisCGAnalyticLinePoint{step: t, value: BrownDennis(xt)}
 		calls++
 		previous := low
@@ -685,8 +756,7 @@ func brownDennisCGAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64, s
 			if calls+brownDennisCGAnalyticDerivativeCost > budget {
 				return brownDennisCGAnalyticLineResult{calls: calls, end: brownDennisCGAnalyticSearchOutOfBudget}
 			}
-			brownDennisCGAnalyticDerivative(xt, current.value, gt, diffs)
-			calls += brownDennisCGAnalyticDerivativeCost
+			calls += brownDennisCGAnalyticDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = brownDennisCGAnalyticDot(gt, d), true
 			switch {
 			case !brownDennisCGAnalyticFinite(current.slope):
@@ -697,18 +767,22 @@ func brownDennisCGAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64, s
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return brownDennisCGAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: brownDennisCGAnalyticSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = brownDennisCGAnalyticZoomTrial(&low, &high)
-		} else {
-			t = brownDennisCGAnalyticExpandTrial(&previous, &current)
+		} else if t = brownDennisCGAnalyticExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return brownDennisCGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return brownDennisCGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return brownDennisCGAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: brownDennisCGAnalyticSearchExhausted}
 }
@@ -795,6 +869,11 @@ func brownDennisCGAnalyticFaithfulStep(x, xt, d *[4]float64, t float64) bool {
 	return true
 }
 
+// brownDennisCGAnalyticStepCap: without bounds a step may be as long as the search wants.
+func brownDennisCGAnalyticStepCap(x, d *[4]float64, tiny float64, b *brownDennisCGAnalyticBox) float64 {
+	return math.Inf(1)
+}
+
 // brownDennisCGAnalyticTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -819,10 +898,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func brownDennisCGAnalyticAcceptLow(x, d *[4]float64, low *brownDennisCGAnalyticLinePoint, lowGradient *[4]float64, calls int, xt, gt *[4]float64) brownDennisCGAnalyticLineResult {
-	brownDennisCGAnalyticMoveTo(xt, x, low.step, d)
+func brownDennisCGAnalyticAcceptLow(x, d *[4]float64, low *brownDennisCGAnalyticLinePoint, lowGradient *[4]float64, calls int, xt, gt *[4]float64, diffs *brownDennisCGAnalyticDifferences) brownDennisCGAnalyticLineResult {
+	brownDennisCGAnalyticTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return brownDennisCGAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: brownDennisCGAnalyticSearchAccepted}
+}
+
+// brownDennisCGAnalyticTrialPoint is x + t·d.
+func brownDennisCGAnalyticTrialPoint(out, x *[4]float64, t float64, d *[4]float64, b *brownDennisCGAnalyticBox) {
+	brownDennisCGAnalyticMoveTo(out, x, t, d)
 }
 
 // brownDennisCGAnalyticMoveTo sets out = x + t·d.
@@ -877,21 +961,6 @@ func brownDennisCGAnalyticModelMinimizer(a, b *brownDennisCGAnalyticLinePoint) (
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, brownDennisCGAnalyticFinite(t)
-}
-
-// brownDennisCGAnalyticClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func brownDennisCGAnalyticClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // brownDennisCGAnalyticExpandTrial picks a larger trial after current met sufficient decrease

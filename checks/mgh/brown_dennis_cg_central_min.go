@@ -88,6 +88,9 @@ func BrownDennisCGCentralDefaultLimits() BrownDennisCGCentralLimits {
 	}
 }
 
+// brownDennisCGCentralBox is empty: mgh.toml sets no bounds on BrownDennisCGCentral.
+type brownDennisCGCentralBox struct{}
+
 // BrownDennisCGCentral minimizes BrownDennis from x0, as mgh.toml specifies.
 //
 // Direction cg: nonlinear conjugate gradients, Polak–Ribière clipped at zero (PR+), restarted every dim steps.
@@ -105,7 +108,7 @@ func BrownDennisCGCentral(x0 [4]float64) BrownDennisCGCentralResult {
 
 // BrownDennisCGCentralWithLimits is BrownDennisCGCentral with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func BrownDennisCGCentralWithLimits(x0 [4]float64, limits BrownDennisCGCentralLimits) BrownDennisCGCentralResult {
-	out := brownDennisCGCentralMinimize(x0, limits)
+	out := brownDennisCGCentralMinimize(x0, limits, brownDennisCGCentralBox{})
 	return BrownDennisCGCentralResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func brownDennisCGCentralMinimize(x0 [4]float64, lim BrownDennisCGCentralLimits) brownDennisCGCentralOutcome {
-	out := brownDennisCGCentralOutcome{x: x0, status: BrownDennisCGCentralOutOfEvaluations, gradient: math.NaN()}
+func brownDennisCGCentralMinimize(x0 [4]float64, lim BrownDennisCGCentralLimits, bounds brownDennisCGCentralBox) brownDennisCGCentralOutcome {
+	x := x0
+	brownDennisCGCentralEnterBox(&x, &bounds)
+	out := brownDennisCGCentralOutcome{x: x, status: BrownDennisCGCentralOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := BrownDennis(&x)
 	out.f, out.evaluations = fx, 1
 	if !brownDennisCGCentralFinite(fx) || !brownDennisCGCentralFiniteVec(&x) {
 		out.status = BrownDennisCGCentralNonFiniteStart
 		return out
 	}
-	var diffs brownDennisCGCentralDifferences
+	diffs := brownDennisCGCentralDifferences{bounds: bounds}
 	calls, ok := brownDennisCGCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+brownDennisCGCentralDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [4]float64
-	brownDennisCGCentralDerivative(&x, fx, &g, &diffs)
-	out.evaluations += brownDennisCGCentralDerivativeCost
+	out.evaluations += brownDennisCGCentralDerivative(&x, fx, &g, &diffs)
 
 	if !brownDennisCGCentralFiniteVec(&g) {
 		out.status = BrownDennisCGCentralNonFiniteGradient
@@ -211,7 +214,7 @@ func brownDennisCGCentralMinimize(x0 [4]float64, lim BrownDennisCGCentralLimits)
 		case !confirmed:
 			brownDennisCGCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := brownDennisCGCentralGradientMeasure(&g, &e, &x, fx)
+		measure, floor := brownDennisCGCentralStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, brownDennisCGCentralLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func brownDennisCGCentralMinimize(x0 [4]float64, lim BrownDennisCGCentralLimits)
 			if rises >= 8 {
 				return best.ending(BrownDennisCGCentralDiverged, out.iterations, out.evaluations)
 			}
+			brownDennisCGCentralCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(BrownDennisCGCentralOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		brownDennisCGCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := brownDennisCGCentralDot(&g, &d)
 		if !(now < 0) || !brownDennisCGCentralFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			brownDennisCGCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = brownDennisCGCentralDot(&g, &d)
 		}
 		first := float64(brownDennisCGCentralStepInitial)
@@ -267,7 +271,7 @@ func brownDennisCGCentralMinimize(x0 [4]float64, lim BrownDennisCGCentralLimits)
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := brownDennisCGCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := brownDennisCGCentralLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := brownDennisCGCentralLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case brownDennisCGCentralSearchOutOfBudget:
@@ -303,8 +307,7 @@ func brownDennisCGCentralMinimize(x0 [4]float64, lim BrownDennisCGCentralLimits)
 				}
 				return best.ending(BrownDennisCGCentralOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			brownDennisCGCentralDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += brownDennisCGCentralDerivativeCost
+			out.evaluations += brownDennisCGCentralDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		brownDennisCGCentralDifference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o brownDennisCGCentralOutcome) ending(end BrownDennisCGCentralStatus, iter
 	return o
 }
 
+// brownDennisCGCentralEnterBox: without bounds every start is inside.
+func brownDennisCGCentralEnterBox(x *[4]float64, b *brownDennisCGCentralBox) {}
+
 // brownDennisCGCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func brownDennisCGCentralFiniteVec(x *[4]float64) bool {
 	return true
 }
 
-// brownDennisCGCentralDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// brownDennisCGCentralDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type brownDennisCGCentralDifferences struct {
 	ratio     [4]float64
 	curvature [4]float64
 	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see brownDennisCGCentralRoundingFloor)
+	bounds    brownDennisCGCentralBox
 }
 
 // brownDennisCGCentralCalibrate chooses each central-difference interval from the
@@ -397,19 +405,45 @@ func brownDennisCGCentralCalibrate(x *[4]float64, fx float64, diffs *brownDennis
 	var slope [4]float64
 	scale := brownDennisCGCentralAbs(fx)
 	quarter := brownDennisCGCentralSquareRoot(brownDennisCGCentralSquareRoot(brownDennisCGCentralUnitRoundoff)) // u^(1/4)
+	calls := 0
 	for i := range probe {
-		if 4*(i+1) > budget {
-			return 4 * i, false
+		if calls+4 > budget {
+			return calls, false
 		}
 		xi := probe[i]
 		bar := quarter * brownDennisCGCentralLarger(1, brownDennisCGCentralAbs(xi))
+		lower, upper := brownDennisCGCentralCoordinateRange(i, diffs)
+		if xi+2*bar > upper || xi-2*bar < lower {
+			// At a bound: three probes on the side with room, at h, 2h
+			// and 3h, for f‴ ≈ (f(3h) − 3f(2h) + 3f(h) − f(0))/h³ (the
+			// third forward difference).
+			h := brownDennisCGCentralOneSide(xi, bar, 3, lower, upper)
+			if h == 0 {
+				continue // fixed by equal bounds
+			}
+			var f [3]float64
+			for k := range f {
+				probe[i], _ = brownDennisCGCentralProbeStep(xi, float64(k+1)*h, lower, upper)
+				f[k] = BrownDennis(&probe)
+				scale = brownDennisCGCentralLarger(scale, brownDennisCGCentralMagnitude(f[k]))
+			}
+			probe[i] = xi
+			calls += 3
+			if brownDennisCGCentralFinite(f[0]) && brownDennisCGCentralFinite(f[1]) && brownDennisCGCentralFinite(f[2]) {
+				diffs.curvature[i] = brownDennisCGCentralAbs(f[2]-3*f[1]+3*f[0]-fx) / brownDennisCGCentralAbs(h*h*h)
+				diffs.second[i] = brownDennisCGCentralAbs(fx-2*f[0]+f[1]) / (h * h)
+				slope[i] = (-3*fx + 4*f[0] - f[1]) / (2 * h)
+			}
+			continue
+		}
 		var f [4]float64
 		for k, m := range [4]float64{2, 1, -1, -2} {
-			probe[i], _ = brownDennisCGCentralProbeStep(xi, m*bar)
+			probe[i], _ = brownDennisCGCentralProbeStep(xi, m*bar, lower, upper)
 			f[k] = BrownDennis(&probe)
 			scale = brownDennisCGCentralLarger(scale, brownDennisCGCentralMagnitude(f[k]))
 		}
 		probe[i] = xi
+		calls += 4
 		if brownDennisCGCentralFinite(f[0]) && brownDennisCGCentralFinite(f[1]) && brownDennisCGCentralFinite(f[2]) && brownDennisCGCentralFinite(f[3]) {
 			diffs.curvature[i] = brownDennisCGCentralAbs(f[0]-2*f[1]+2*f[2]-f[3]) / (2 * bar * bar * bar)
 			diffs.second[i] = brownDennisCGCentralAbs(f[1]-2*fx+f[2]) / (bar * bar)
@@ -428,7 +462,7 @@ func brownDennisCGCentralCalibrate(x *[4]float64, fx float64, diffs *brownDennis
 		diffs.ratio[i] = brownDennisCGCentralClampBetween(h, 64*brownDennisCGCentralUnitRoundoff*s, bar) / s
 		diffs.curvature[i] = third
 	}
-	return 4 * len(probe), true
+	return calls, true
 }
 
 // brownDennisCGCentralAbs returns |v|.
@@ -454,10 +488,48 @@ func brownDennisCGCentralLarger(a, b float64) float64 {
 	return b
 }
 
-// brownDennisCGCentralProbeStep returns x_i moved by h, and the step actually representable.
-func brownDennisCGCentralProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// brownDennisCGCentralCoordinateRange: without bounds any probe is allowed.
+func brownDennisCGCentralCoordinateRange(i int, diffs *brownDennisCGCentralDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// brownDennisCGCentralOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func brownDennisCGCentralOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
+}
+
+// brownDennisCGCentralProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func brownDennisCGCentralProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := brownDennisCGCentralClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// brownDennisCGCentralClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func brownDennisCGCentralClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
 }
 
 // brownDennisCGCentralMagnitude is |v| for a finite v and 0 otherwise: a probe that fell
@@ -493,42 +565,85 @@ func brownDennisCGCentralCubeRoot(v float64) float64 {
 	return math.Cbrt(v)
 }
 
-// brownDennisCGCentralClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func brownDennisCGCentralClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
-}
-
 // brownDennisCGCentralDerivative approximates the gradient by central differences,
 //
 //	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),
 //
 // with the intervals brownDennisCGCentralCalibrate chose, h_i = ratio_i·max(1, |x_i|)
-// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls; fx is
-// not needed.
-func brownDennisCGCentralDerivative(x *[4]float64, fx float64, g *[4]float64, diffs *brownDennisCGCentralDifferences) {
+// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls. Where
+// a bound leaves no room on one side, the three-point endpoint formula on
+// the other side takes its place at the same cost (see parabola); a
+// variable fixed by equal bounds costs nothing and gets 0.
+func brownDennisCGCentralDerivative(x *[4]float64, fx float64, g *[4]float64, diffs *brownDennisCGCentralDifferences) int {
 	probe := *x
+	calls := 0
 	for i := range probe {
 		xi := probe[i]
-		h := diffs.ratio[i] * brownDennisCGCentralLarger(1, brownDennisCGCentralAbs(xi))
-		up, _ := brownDennisCGCentralProbeStep(xi, h)
-		down, _ := brownDennisCGCentralProbeStep(xi, -h)
-		probe[i] = up
-		fUp := BrownDennis(&probe)
-		probe[i] = down
-		fDown := BrownDennis(&probe)
-		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
-		probe[i] = xi
+		h, oneSided := brownDennisCGCentralCentralInterval(x, i, diffs)
+		lower, upper := brownDennisCGCentralCoordinateRange(i, diffs)
+		switch {
+		case h == 0:
+			g[i] = 0 // fixed by equal bounds
+			continue
+		case oneSided:
+			g[i], _, _ = brownDennisCGCentralSidedProbes(&probe, i, fx, h, lower, upper) // the three-point endpoint formula
+		default:
+			up, _ := brownDennisCGCentralProbeStep(xi, h, lower, upper)
+			down, _ := brownDennisCGCentralProbeStep(xi, -h, lower, upper)
+			probe[i] = up
+			fUp := BrownDennis(&probe)
+			probe[i] = down
+			fDown := BrownDennis(&probe)
+			g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+			probe[i] = xi
+		}
+		calls += 2
 	}
+	return calls
+}
+
+// brownDennisCGCentralCentralInterval is the interval of coordinate i at x, ratio_i·max(1,
+// |x_i|), and whether the box leaves room for probes on both sides; when
+// it does not, the interval is signed towards the side with room for
+// probes at h and 2h, and shortened where the box is narrower than that
+// (see brownDennisCGCentralOneSide).
+func brownDennisCGCentralCentralInterval(x *[4]float64, i int, diffs *brownDennisCGCentralDifferences) (h float64, oneSided bool) {
+	lower, upper := brownDennisCGCentralCoordinateRange(i, diffs)
+	h = diffs.ratio[i] * brownDennisCGCentralLarger(1, brownDennisCGCentralAbs(x[i]))
+	if x[i]+h <= upper && x[i]-h >= lower {
+		return h, false
+	}
+	return brownDennisCGCentralOneSide(x[i], h, 2, lower, upper), true
+}
+
+// brownDennisCGCentralSidedProbes evaluates f at x moved along coordinate i by h and by 2h,
+// kept within [lower, upper], and returns the slope and second derivative
+// of the parabola through them and (x, fx) (see parabola), and the larger
+// magnitude of the two values.
+func brownDennisCGCentralSidedProbes(probe *[4]float64, i int, fx, h, lower, upper float64) (slope, second, size float64) {
+	xi := probe[i]
+	near, a := brownDennisCGCentralProbeStep(xi, h, lower, upper)
+	far, b := brownDennisCGCentralProbeStep(xi, 2*h, lower, upper)
+	probe[i] = near
+	fNear := BrownDennis(probe)
+	probe[i] = far
+	fFar := BrownDennis(probe)
+	probe[i] = xi
+	slope, second = brownDennisCGCentralParabola(fx, a, fNear, b, fFar)
+	return slope, second, brownDennisCGCentralLarger(brownDennisCGCentralMagnitude(fNear), brownDennisCGCentralMagnitude(fFar))
+}
+
+// brownDennisCGCentralParabola returns the first and second derivatives at 0 of the parabola
+// through (0, f0), (a, fa) and (b, fb), for probes on one side of a bound.
+// With b = 2a they are the three-point endpoint formulas
+// f′ ≈ (−3f0 + 4fa − fb)/(2a), error a²|f‴|/3, and
+// f″ ≈ (f0 − 2fa + fb)/a² (Burden & Faires, Numerical Analysis, §4.1
+// and §4.1's second-derivative formulas, from memory); written for unequal
+// a and b, so that the representable steps can be used.
+func brownDennisCGCentralParabola(f0, a, fa, b, fb float64) (slope, second float64) {
+	slope = -(a+b)/(a*b)*f0 + b/(a*(b-a))*fa - a/(b*(b-a))*fb
+	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
+	return slope, second
 }
 
 // brownDennisCGCentralDirection is nonlinear conjugate gradients with the Polak–Ribière
@@ -650,13 +765,13 @@ func brownDennisCGCentralConfirmGradient(x *[4]float64, fx float64, g, e *[4]flo
 		wide.ratio[i] *= 2
 	}
 	var doubled [4]float64
-	brownDennisCGCentralDerivative(x, fx, g, diffs)
-	brownDennisCGCentralDerivative(x, fx, &doubled, &wide)
+	calls += brownDennisCGCentralDerivative(x, fx, g, diffs)
+	calls += brownDennisCGCentralDerivative(x, fx, &doubled, &wide)
 	brownDennisCGCentralGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * brownDennisCGCentralAbs(g[i]-doubled[i])
 	}
-	return calls + 2*brownDennisCGCentralDerivativeCost, true
+	return calls, true
 }
 
 // brownDennisCGCentralGradientError bounds each central difference's error by twice its
@@ -666,8 +781,16 @@ func brownDennisCGCentralConfirmGradient(x *[4]float64, fx float64, g, e *[4]flo
 func brownDennisCGCentralGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *brownDennisCGCentralDifferences) {
 	noise := brownDennisCGCentralNoiseLevel(x, fx, g)
 	for i := range e {
-		h := diffs.ratio[i] * brownDennisCGCentralLarger(1, brownDennisCGCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		h, oneSided := brownDennisCGCentralCentralInterval(x, i, diffs)
+		h = brownDennisCGCentralAbs(h)
+		switch {
+		case h == 0:
+			e[i] = 0 // fixed by equal bounds
+		case oneSided:
+			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+		default:
+			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		}
 	}
 }
 
@@ -689,6 +812,11 @@ func brownDennisCGCentralRoundingFloor(x, g, e *[4]float64, diffs *brownDennisCG
 // calibration, which brownDennisCGCentralConfirmGradient has just made at x.
 func brownDennisCGCentralDiagonalCurvature(x, g *[4]float64, diffs *brownDennisCGCentralDifferences, h *[4]float64) {
 	*h = diffs.second
+}
+
+// brownDennisCGCentralStationarity measures the gradient itself.
+func brownDennisCGCentralStationarity(g, e, x *[4]float64, fx float64, b *brownDennisCGCentralBox) (measure, floor float64) {
+	return brownDennisCGCentralGradientMeasure(g, e, x, fx)
 }
 
 // brownDennisCGCentralGradientMeasure is the scale-free measure
@@ -724,6 +852,14 @@ func brownDennisCGCentralStepWithin(s, x *[4]float64, tol float64) bool {
 	return true
 }
 
+// brownDennisCGCentralCurvaturePair: without bounds the pair is used as it is.
+func brownDennisCGCentralCurvaturePair(s, y, x *[4]float64, b *brownDennisCGCentralBox) {}
+
+// brownDennisCGCentralSearchDirection is the direction's own.
+func brownDennisCGCentralSearchDirection(dir *brownDennisCGCentralDirection, x, g, d *[4]float64, b *brownDennisCGCentralBox) {
+	dir.compute(g, d)
+}
+
 // brownDennisCGCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func brownDennisCGCentralTinyStep(x, d *[4]float64, tol float64) float64 {
@@ -751,7 +887,10 @@ func brownDennisCGCentralTinyStep(x, d *[4]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (brownDennisCGCentralStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -760,13 +899,17 @@ func brownDennisCGCentralTinyStep(x, d *[4]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func brownDennisCGCentralLineSearch(x *[4]float64, fx float64, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *brownDennisCGCentralDifferences) brownDennisCGCentralLineResult {
+func brownDennisCGCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *brownDennisCGCentralDifferences) brownDennisCGCentralLineResult {
 	low := brownDennisCGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high brownDennisCGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                    // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend brownDennisCGCentralRiseTrend // of the trials failing sufficient decrease
+	var trend brownDennisCGCentralRiseTrend                         // of the trials failing sufficient decrease
+	limit := brownDennisCGCentralStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < brownDennisCGCentralStepTrials; trial++ {
 		if bracketed && brownDennisCGCentralAbs(high.step-low.step) <= tiny {
@@ -776,12 +919,12 @@ func brownDennisCGCentralLineSearch(x *[4]float64, fx float64, d *[4]float64, sl
 			if low.step == 0 {
 				return brownDennisCGCentralLineResult{calls: calls, rising: trend.contradicts(), end: brownDennisCGCentralTinyOrExhausted(brownDennisCGCentralFinite(high.value))}
 			}
-			return brownDennisCGCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return brownDennisCGCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return brownDennisCGCentralLineResult{calls: calls, end: brownDennisCGCentralSearchOutOfBudget}
 		}
-		brownDennisCGCentralMoveTo(xt, x, t, d)
+		brownDennisCGCentralTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := brownDennisCGCentralLinePoint{step: t, value: BrownDennis(xt)}
 		calls++
 		previous := low
@@ -792,8 +935,7 @@ func brownDennisCGCentralLineSearch(x *[4]float64, fx float64, d *[4]float64, sl
 			if calls+brownDennisCGCentralDerivativeCost > budget {
 				return brownDennisCGCentralLineResult{calls: calls, end: brownDennisCGCentralSearchOutOfBudget}
 			}
-			brownDennisCGCentralDerivative(xt, current.value, gt, diffs)
-			calls += brownDennisCGCentralDerivativeCost
+			calls += brownDennisCGCentralDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = brownDennisCGCentralDot(gt, d), true
 			switch {
 			case !brownDennisCGCentralFinite(current.slope):
@@ -804,18 +946,22 @@ func brownDennisCGCentralLineSearch(x *[4]float64, fx float64, d *[4]float64, sl
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return brownDennisCGCentralLineResult{step: t, value: current.value, calls: calls, gradient: true, end: brownDennisCGCentralSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = brownDennisCGCentralZoomTrial(&low, &high)
-		} else {
-			t = brownDennisCGCentralExpandTrial(&previous, &current)
+		} else if t = brownDennisCGCentralExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return brownDennisCGCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return brownDennisCGCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return brownDennisCGCentralLineResult{calls: calls, rising: trend.contradicts(), end: brownDennisCGCentralSearchExhausted}
 }
@@ -902,6 +1048,11 @@ func brownDennisCGCentralFaithfulStep(x, xt, d *[4]float64, t float64) bool {
 	return true
 }
 
+// brownDennisCGCentralStepCap: without bounds a step may be as long as the search wants.
+func brownDennisCGCentralStepCap(x, d *[4]float64, tiny float64, b *brownDennisCGCentralBox) float64 {
+	return math.Inf(1)
+}
+
 // brownDennisCGCentralTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -926,10 +1077,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func brownDennisCGCentralAcceptLow(x, d *[4]float64, low *brownDennisCGCentralLinePoint, lowGradient *[4]float64, calls int, xt, gt *[4]float64) brownDennisCGCentralLineResult {
-	brownDennisCGCentralMoveTo(xt, x, low.step, d)
+func brownDennisCGCentralAcceptLow(x, d *[4]float64, low *brownDennisCGCentralLinePoint, lowGradient *[4]float64, calls int, xt, gt *[4]float64, diffs *brownDennisCGCentralDifferences) brownDennisCGCentralLineResult {
+	brownDennisCGCentralTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return brownDennisCGCentralLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: brownDennisCGCentralSearchAccepted}
+}
+
+// brownDennisCGCentralTrialPoint is x + t·d.
+func brownDennisCGCentralTrialPoint(out, x *[4]float64, t float64, d *[4]float64, b *brownDennisCGCentralBox) {
+	brownDennisCGCentralMoveTo(out, x, t, d)
 }
 
 // brownDennisCGCentralMoveTo sets out = x + t·d.

@@ -88,6 +88,9 @@ func BrownDennisLBFGSAnalyticDefaultLimits() BrownDennisLBFGSAnalyticLimits {
 	}
 }
 
+// brownDennisLBFGSAnalyticBox is empty: mgh.toml sets no bounds on BrownDennisLBFGSAnalytic.
+type brownDennisLBFGSAnalyticBox struct{}
+
 // BrownDennisLBFGSAnalytic minimizes BrownDennis from x0, as mgh.toml specifies.
 //
 // Direction lbfgs: limited-memory BFGS: the last `memory` pairs, two-loop recursion (2·memory·dim numbers).
@@ -105,7 +108,7 @@ func BrownDennisLBFGSAnalytic(x0 [4]float64) BrownDennisLBFGSAnalyticResult {
 
 // BrownDennisLBFGSAnalyticWithLimits is BrownDennisLBFGSAnalytic with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func BrownDennisLBFGSAnalyticWithLimits(x0 [4]float64, limits BrownDennisLBFGSAnalyticLimits) BrownDennisLBFGSAnalyticResult {
-	out := brownDennisLBFGSAnalyticMinimize(x0, limits)
+	out := brownDennisLBFGSAnalyticMinimize(x0, limits, brownDennisLBFGSAnalyticBox{})
 	return BrownDennisLBFGSAnalyticResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -159,27 +162,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func brownDennisLBFGSAnalyticMinimize(x0 [4]float64, lim BrownDennisLBFGSAnalyticLimits) brownDennisLBFGSAnalyticOutcome {
-	out := brownDennisLBFGSAnalyticOutcome{x: x0, status: BrownDennisLBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
+func brownDennisLBFGSAnalyticMinimize(x0 [4]float64, lim BrownDennisLBFGSAnalyticLimits, bounds brownDennisLBFGSAnalyticBox) brownDennisLBFGSAnalyticOutcome {
+	x := x0
+	brownDennisLBFGSAnalyticEnterBox(&x, &bounds)
+	out := brownDennisLBFGSAnalyticOutcome{x: x, status: BrownDennisLBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := BrownDennis(&x)
 	out.f, out.evaluations = fx, 1
 	if !brownDennisLBFGSAnalyticFinite(fx) || !brownDennisLBFGSAnalyticFiniteVec(&x) {
 		out.status = BrownDennisLBFGSAnalyticNonFiniteStart
 		return out
 	}
-	var diffs brownDennisLBFGSAnalyticDifferences
+	diffs := brownDennisLBFGSAnalyticDifferences{bounds: bounds}
 	calls, ok := brownDennisLBFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+brownDennisLBFGSAnalyticDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [4]float64
-	brownDennisLBFGSAnalyticDerivative(&x, fx, &g, &diffs)
-	out.evaluations += brownDennisLBFGSAnalyticDerivativeCost
+	out.evaluations += brownDennisLBFGSAnalyticDerivative(&x, fx, &g, &diffs)
 
 	if !brownDennisLBFGSAnalyticFiniteVec(&g) {
 		out.status = BrownDennisLBFGSAnalyticNonFiniteGradient
@@ -212,7 +215,7 @@ func brownDennisLBFGSAnalyticMinimize(x0 [4]float64, lim BrownDennisLBFGSAnalyti
 		case !confirmed:
 			brownDennisLBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := brownDennisLBFGSAnalyticGradientMeasure(&g, &e, &x, fx)
+		measure, floor := brownDennisLBFGSAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, brownDennisLBFGSAnalyticLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -251,16 +254,17 @@ func brownDennisLBFGSAnalyticMinimize(x0 [4]float64, lim BrownDennisLBFGSAnalyti
 			if rises >= 8 {
 				return best.ending(BrownDennisLBFGSAnalyticDiverged, out.iterations, out.evaluations)
 			}
+			brownDennisLBFGSAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(BrownDennisLBFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		brownDennisLBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := brownDennisLBFGSAnalyticDot(&g, &d)
 		if !(now < 0) || !brownDennisLBFGSAnalyticFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			brownDennisLBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = brownDennisLBFGSAnalyticDot(&g, &d)
 		}
 		first := float64(brownDennisLBFGSAnalyticStepInitial)
@@ -268,7 +272,7 @@ func brownDennisLBFGSAnalyticMinimize(x0 [4]float64, lim BrownDennisLBFGSAnalyti
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := brownDennisLBFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := brownDennisLBFGSAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := brownDennisLBFGSAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case brownDennisLBFGSAnalyticSearchOutOfBudget:
@@ -304,8 +308,7 @@ func brownDennisLBFGSAnalyticMinimize(x0 [4]float64, lim BrownDennisLBFGSAnalyti
 				}
 				return best.ending(BrownDennisLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			brownDennisLBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += brownDennisLBFGSAnalyticDerivativeCost
+			out.evaluations += brownDennisLBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		brownDennisLBFGSAnalyticDifference(&s, &xt, &x)
@@ -346,6 +349,9 @@ func (o brownDennisLBFGSAnalyticOutcome) ending(end BrownDennisLBFGSAnalyticStat
 	return o
 }
 
+// brownDennisLBFGSAnalyticEnterBox: without bounds every start is inside.
+func brownDennisLBFGSAnalyticEnterBox(x *[4]float64, b *brownDennisLBFGSAnalyticBox) {}
+
 // brownDennisLBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -368,15 +374,17 @@ func brownDennisLBFGSAnalyticFiniteVec(x *[4]float64) bool {
 	return true
 }
 
-// brownDennisLBFGSAnalyticDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// brownDennisLBFGSAnalyticDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type brownDennisLBFGSAnalyticDifferences struct {
 	ratio     [4]float64
 	curvature [4]float64
 	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see brownDennisLBFGSAnalyticRoundingFloor)
+	bounds    brownDennisLBFGSAnalyticBox
 }
 
 // brownDennisLBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
@@ -385,8 +393,9 @@ func brownDennisLBFGSAnalyticCalibrate(x *[4]float64, fx float64, diffs *brownDe
 }
 
 // brownDennisLBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func brownDennisLBFGSAnalyticDerivative(x *[4]float64, fx float64, g *[4]float64, diffs *brownDennisLBFGSAnalyticDifferences) {
+func brownDennisLBFGSAnalyticDerivative(x *[4]float64, fx float64, g *[4]float64, diffs *brownDennisLBFGSAnalyticDifferences) int {
 	BrownDennisGrad(x, g)
+	return 0
 }
 
 // brownDennisLBFGSAnalyticDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
@@ -551,13 +560,13 @@ func brownDennisLBFGSAnalyticConfirmGradient(x *[4]float64, fx float64, g, e *[4
 		wide.ratio[i] *= 2
 	}
 	var doubled [4]float64
-	brownDennisLBFGSAnalyticDerivative(x, fx, g, diffs)
-	brownDennisLBFGSAnalyticDerivative(x, fx, &doubled, &wide)
+	calls += brownDennisLBFGSAnalyticDerivative(x, fx, g, diffs)
+	calls += brownDennisLBFGSAnalyticDerivative(x, fx, &doubled, &wide)
 	brownDennisLBFGSAnalyticGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * brownDennisLBFGSAnalyticAbs(g[i]-doubled[i])
 	}
-	return calls + 2*brownDennisLBFGSAnalyticDerivativeCost, true
+	return calls, true
 }
 
 // brownDennisLBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
@@ -599,18 +608,60 @@ func brownDennisLBFGSAnalyticDiagonalCurvature(x, g *[4]float64, diffs *brownDen
 	var moved [4]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := brownDennisLBFGSAnalyticProbeStep(xi, brownDennisLBFGSAnalyticSquareRoot(brownDennisLBFGSAnalyticUnitRoundoff)*brownDennisLBFGSAnalyticLarger(1, brownDennisLBFGSAnalyticAbs(xi)))
-		probe[i] = up
-		BrownDennisGrad(&probe, &moved)
-		h[i] = brownDennisLBFGSAnalyticAbs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := brownDennisLBFGSAnalyticCoordinateRange(i, diffs)
+		up, delta := brownDennisLBFGSAnalyticProbeStep(xi, brownDennisLBFGSAnalyticOneSide(xi, brownDennisLBFGSAnalyticSquareRoot(brownDennisLBFGSAnalyticUnitRoundoff)*brownDennisLBFGSAnalyticLarger(1, brownDennisLBFGSAnalyticAbs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			BrownDennisGrad(&probe, &moved)
+			h[i] = brownDennisLBFGSAnalyticAbs(moved[i]-g[i]) / brownDennisLBFGSAnalyticAbs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// brownDennisLBFGSAnalyticProbeStep returns x_i moved by h, and the step actually representable.
-func brownDennisLBFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// brownDennisLBFGSAnalyticCoordinateRange: without bounds any probe is allowed.
+func brownDennisLBFGSAnalyticCoordinateRange(i int, diffs *brownDennisLBFGSAnalyticDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// brownDennisLBFGSAnalyticProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func brownDennisLBFGSAnalyticProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := brownDennisLBFGSAnalyticClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// brownDennisLBFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func brownDennisLBFGSAnalyticClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// brownDennisLBFGSAnalyticOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func brownDennisLBFGSAnalyticOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // brownDennisLBFGSAnalyticSquareRoot returns √v.
@@ -626,6 +677,11 @@ func brownDennisLBFGSAnalyticLarger(a, b float64) float64 {
 		return a
 	}
 	return b
+}
+
+// brownDennisLBFGSAnalyticStationarity measures the gradient itself.
+func brownDennisLBFGSAnalyticStationarity(g, e, x *[4]float64, fx float64, b *brownDennisLBFGSAnalyticBox) (measure, floor float64) {
+	return brownDennisLBFGSAnalyticGradientMeasure(g, e, x, fx)
 }
 
 // brownDennisLBFGSAnalyticGradientMeasure is the scale-free measure
@@ -661,6 +717,14 @@ func brownDennisLBFGSAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
 	return true
 }
 
+// brownDennisLBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
+func brownDennisLBFGSAnalyticCurvaturePair(s, y, x *[4]float64, b *brownDennisLBFGSAnalyticBox) {}
+
+// brownDennisLBFGSAnalyticSearchDirection is the direction's own.
+func brownDennisLBFGSAnalyticSearchDirection(dir *brownDennisLBFGSAnalyticDirection, x, g, d *[4]float64, b *brownDennisLBFGSAnalyticBox) {
+	dir.compute(g, d)
+}
+
 // brownDennisLBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func brownDennisLBFGSAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
@@ -688,7 +752,10 @@ func brownDennisLBFGSAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (brownDennisLBFGSAnalyticStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -697,13 +764,17 @@ func brownDennisLBFGSAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func brownDennisLBFGSAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *brownDennisLBFGSAnalyticDifferences) brownDennisLBFGSAnalyticLineResult {
+func brownDennisLBFGSAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *brownDennisLBFGSAnalyticDifferences) brownDennisLBFGSAnalyticLineResult {
 	low := brownDennisLBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high brownDennisLBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                        // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend brownDennisLBFGSAnalyticRiseTrend // of the trials failing sufficient decrease
+	var trend brownDennisLBFGSAnalyticRiseTrend                         // of the trials failing sufficient decrease
+	limit := brownDennisLBFGSAnalyticStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < brownDennisLBFGSAnalyticStepTrials; trial++ {
 		if bracketed && brownDennisLBFGSAnalyticAbs(high.step-low.step) <= tiny {
@@ -713,12 +784,12 @@ func brownDennisLBFGSAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64
 			if low.step == 0 {
 				return brownDennisLBFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: brownDennisLBFGSAnalyticTinyOrExhausted(brownDennisLBFGSAnalyticFinite(high.value))}
 			}
-			return brownDennisLBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return brownDennisLBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return brownDennisLBFGSAnalyticLineResult{calls: calls, end: brownDennisLBFGSAnalyticSearchOutOfBudget}
 		}
-		brownDennisLBFGSAnalyticMoveTo(xt, x, t, d)
+		brownDennisLBFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := brownDennisLBFGSAnalyticLinePoint{step: t, value: BrownDennis(xt)}
 		calls++
 		previous := low
@@ -729,8 +800,7 @@ func brownDennisLBFGSAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64
 			if calls+brownDennisLBFGSAnalyticDerivativeCost > budget {
 				return brownDennisLBFGSAnalyticLineResult{calls: calls, end: brownDennisLBFGSAnalyticSearchOutOfBudget}
 			}
-			brownDennisLBFGSAnalyticDerivative(xt, current.value, gt, diffs)
-			calls += brownDennisLBFGSAnalyticDerivativeCost
+			calls += brownDennisLBFGSAnalyticDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = brownDennisLBFGSAnalyticDot(gt, d), true
 			switch {
 			case !brownDennisLBFGSAnalyticFinite(current.slope):
@@ -741,18 +811,22 @@ func brownDennisLBFGSAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return brownDennisLBFGSAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: brownDennisLBFGSAnalyticSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = brownDennisLBFGSAnalyticZoomTrial(&low, &high)
-		} else {
-			t = brownDennisLBFGSAnalyticExpandTrial(&previous, &current)
+		} else if t = brownDennisLBFGSAnalyticExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return brownDennisLBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return brownDennisLBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return brownDennisLBFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: brownDennisLBFGSAnalyticSearchExhausted}
 }
@@ -839,6 +913,11 @@ func brownDennisLBFGSAnalyticFaithfulStep(x, xt, d *[4]float64, t float64) bool 
 	return true
 }
 
+// brownDennisLBFGSAnalyticStepCap: without bounds a step may be as long as the search wants.
+func brownDennisLBFGSAnalyticStepCap(x, d *[4]float64, tiny float64, b *brownDennisLBFGSAnalyticBox) float64 {
+	return math.Inf(1)
+}
+
 // brownDennisLBFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -863,10 +942,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func brownDennisLBFGSAnalyticAcceptLow(x, d *[4]float64, low *brownDennisLBFGSAnalyticLinePoint, lowGradient *[4]float64, calls int, xt, gt *[4]float64) brownDennisLBFGSAnalyticLineResult {
-	brownDennisLBFGSAnalyticMoveTo(xt, x, low.step, d)
+func brownDennisLBFGSAnalyticAcceptLow(x, d *[4]float64, low *brownDennisLBFGSAnalyticLinePoint, lowGradient *[4]float64, calls int, xt, gt *[4]float64, diffs *brownDennisLBFGSAnalyticDifferences) brownDennisLBFGSAnalyticLineResult {
+	brownDennisLBFGSAnalyticTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return brownDennisLBFGSAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: brownDennisLBFGSAnalyticSearchAccepted}
+}
+
+// brownDennisLBFGSAnalyticTrialPoint is x + t·d.
+func brownDennisLBFGSAnalyticTrialPoint(out, x *[4]float64, t float64, d *[4]float64, b *brownDennisLBFGSAnalyticBox) {
+	brownDennisLBFGSAnalyticMoveTo(out, x, t, d)
 }
 
 // brownDennisLBFGSAnalyticMoveTo sets out = x + t·d.
@@ -921,21 +1005,6 @@ func brownDennisLBFGSAnalyticModelMinimizer(a, b *brownDennisLBFGSAnalyticLinePo
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, brownDennisLBFGSAnalyticFinite(t)
-}
-
-// brownDennisLBFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func brownDennisLBFGSAnalyticClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // brownDennisLBFGSAnalyticExpandTrial picks a larger trial after current met sufficient decrease

@@ -88,6 +88,9 @@ func BrownDennisLBFGSCentralDefaultLimits() BrownDennisLBFGSCentralLimits {
 	}
 }
 
+// brownDennisLBFGSCentralBox is empty: mgh.toml sets no bounds on BrownDennisLBFGSCentral.
+type brownDennisLBFGSCentralBox struct{}
+
 // BrownDennisLBFGSCentral minimizes BrownDennis from x0, as mgh.toml specifies.
 //
 // Direction lbfgs: limited-memory BFGS: the last `memory` pairs, two-loop recursion (2·memory·dim numbers).
@@ -105,7 +108,7 @@ func BrownDennisLBFGSCentral(x0 [4]float64) BrownDennisLBFGSCentralResult {
 
 // BrownDennisLBFGSCentralWithLimits is BrownDennisLBFGSCentral with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func BrownDennisLBFGSCentralWithLimits(x0 [4]float64, limits BrownDennisLBFGSCentralLimits) BrownDennisLBFGSCentralResult {
-	out := brownDennisLBFGSCentralMinimize(x0, limits)
+	out := brownDennisLBFGSCentralMinimize(x0, limits, brownDennisLBFGSCentralBox{})
 	return BrownDennisLBFGSCentralResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -159,27 +162,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func brownDennisLBFGSCentralMinimize(x0 [4]float64, lim BrownDennisLBFGSCentralLimits) brownDennisLBFGSCentralOutcome {
-	out := brownDennisLBFGSCentralOutcome{x: x0, status: BrownDennisLBFGSCentralOutOfEvaluations, gradient: math.NaN()}
+func brownDennisLBFGSCentralMinimize(x0 [4]float64, lim BrownDennisLBFGSCentralLimits, bounds brownDennisLBFGSCentralBox) brownDennisLBFGSCentralOutcome {
+	x := x0
+	brownDennisLBFGSCentralEnterBox(&x, &bounds)
+	out := brownDennisLBFGSCentralOutcome{x: x, status: BrownDennisLBFGSCentralOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := BrownDennis(&x)
 	out.f, out.evaluations = fx, 1
 	if !brownDennisLBFGSCentralFinite(fx) || !brownDennisLBFGSCentralFiniteVec(&x) {
 		out.status = BrownDennisLBFGSCentralNonFiniteStart
 		return out
 	}
-	var diffs brownDennisLBFGSCentralDifferences
+	diffs := brownDennisLBFGSCentralDifferences{bounds: bounds}
 	calls, ok := brownDennisLBFGSCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+brownDennisLBFGSCentralDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [4]float64
-	brownDennisLBFGSCentralDerivative(&x, fx, &g, &diffs)
-	out.evaluations += brownDennisLBFGSCentralDerivativeCost
+	out.evaluations += brownDennisLBFGSCentralDerivative(&x, fx, &g, &diffs)
 
 	if !brownDennisLBFGSCentralFiniteVec(&g) {
 		out.status = BrownDennisLBFGSCentralNonFiniteGradient
@@ -212,7 +215,7 @@ func brownDennisLBFGSCentralMinimize(x0 [4]float64, lim BrownDennisLBFGSCentralL
 		case !confirmed:
 			brownDennisLBFGSCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := brownDennisLBFGSCentralGradientMeasure(&g, &e, &x, fx)
+		measure, floor := brownDennisLBFGSCentralStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, brownDennisLBFGSCentralLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -251,16 +254,17 @@ func brownDennisLBFGSCentralMinimize(x0 [4]float64, lim BrownDennisLBFGSCentralL
 			if rises >= 8 {
 				return best.ending(BrownDennisLBFGSCentralDiverged, out.iterations, out.evaluations)
 			}
+			brownDennisLBFGSCentralCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(BrownDennisLBFGSCentralOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		brownDennisLBFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := brownDennisLBFGSCentralDot(&g, &d)
 		if !(now < 0) || !brownDennisLBFGSCentralFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			brownDennisLBFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = brownDennisLBFGSCentralDot(&g, &d)
 		}
 		first := float64(brownDennisLBFGSCentralStepInitial)
@@ -268,7 +272,7 @@ func brownDennisLBFGSCentralMinimize(x0 [4]float64, lim BrownDennisLBFGSCentralL
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := brownDennisLBFGSCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := brownDennisLBFGSCentralLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := brownDennisLBFGSCentralLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case brownDennisLBFGSCentralSearchOutOfBudget:
@@ -304,8 +308,7 @@ func brownDennisLBFGSCentralMinimize(x0 [4]float64, lim BrownDennisLBFGSCentralL
 				}
 				return best.ending(BrownDennisLBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			brownDennisLBFGSCentralDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += brownDennisLBFGSCentralDerivativeCost
+			out.evaluations += brownDennisLBFGSCentralDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		brownDennisLBFGSCentralDifference(&s, &xt, &x)
@@ -346,6 +349,9 @@ func (o brownDennisLBFGSCentralOutcome) ending(end BrownDennisLBFGSCentralStatus
 	return o
 }
 
+// brownDennisLBFGSCentralEnterBox: without bounds every start is inside.
+func brownDennisLBFGSCentralEnterBox(x *[4]float64, b *brownDennisLBFGSCentralBox) {}
+
 // brownDennisLBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -368,15 +374,17 @@ func brownDennisLBFGSCentralFiniteVec(x *[4]float64) bool {
 	return true
 }
 
-// brownDennisLBFGSCentralDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// brownDennisLBFGSCentralDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type brownDennisLBFGSCentralDifferences struct {
 	ratio     [4]float64
 	curvature [4]float64
 	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see brownDennisLBFGSCentralRoundingFloor)
+	bounds    brownDennisLBFGSCentralBox
 }
 
 // brownDennisLBFGSCentralCalibrate chooses each central-difference interval from the
@@ -398,19 +406,45 @@ func brownDennisLBFGSCentralCalibrate(x *[4]float64, fx float64, diffs *brownDen
 	var slope [4]float64
 	scale := brownDennisLBFGSCentralAbs(fx)
 	quarter := brownDennisLBFGSCentralSquareRoot(brownDennisLBFGSCentralSquareRoot(brownDennisLBFGSCentralUnitRoundoff)) // u^(1/4)
+	calls := 0
 	for i := range probe {
-		if 4*(i+1) > budget {
-			return 4 * i, false
+		if calls+4 > budget {
+			return calls, false
 		}
 		xi := probe[i]
 		bar := quarter * brownDennisLBFGSCentralLarger(1, brownDennisLBFGSCentralAbs(xi))
+		lower, upper := brownDennisLBFGSCentralCoordinateRange(i, diffs)
+		if xi+2*bar > upper || xi-2*bar < lower {
+			// At a bound: three probes on the side with room, at h, 2h
+			// and 3h, for f‴ ≈ (f(3h) − 3f(2h) + 3f(h) − f(0))/h³ (the
+			// third forward difference).
+			h := brownDennisLBFGSCentralOneSide(xi, bar, 3, lower, upper)
+			if h == 0 {
+				continue // fixed by equal bounds
+			}
+			var f [3]float64
+			for k := range f {
+				probe[i], _ = brownDennisLBFGSCentralProbeStep(xi, float64(k+1)*h, lower, upper)
+				f[k] = BrownDennis(&probe)
+				scale = brownDennisLBFGSCentralLarger(scale, brownDennisLBFGSCentralMagnitude(f[k]))
+			}
+			probe[i] = xi
+			calls += 3
+			if brownDennisLBFGSCentralFinite(f[0]) && brownDennisLBFGSCentralFinite(f[1]) && brownDennisLBFGSCentralFinite(f[2]) {
+				diffs.curvature[i] = brownDennisLBFGSCentralAbs(f[2]-3*f[1]+3*f[0]-fx) / brownDennisLBFGSCentralAbs(h*h*h)
+				diffs.second[i] = brownDennisLBFGSCentralAbs(fx-2*f[0]+f[1]) / (h * h)
+				slope[i] = (-3*fx + 4*f[0] - f[1]) / (2 * h)
+			}
+			continue
+		}
 		var f [4]float64
 		for k, m := range [4]float64{2, 1, -1, -2} {
-			probe[i], _ = brownDennisLBFGSCentralProbeStep(xi, m*bar)
+			probe[i], _ = brownDennisLBFGSCentralProbeStep(xi, m*bar, lower, upper)
 			f[k] = BrownDennis(&probe)
 			scale = brownDennisLBFGSCentralLarger(scale, brownDennisLBFGSCentralMagnitude(f[k]))
 		}
 		probe[i] = xi
+		calls += 4
 		if brownDennisLBFGSCentralFinite(f[0]) && brownDennisLBFGSCentralFinite(f[1]) && brownDennisLBFGSCentralFinite(f[2]) && brownDennisLBFGSCentralFinite(f[3]) {
 			diffs.curvature[i] = brownDennisLBFGSCentralAbs(f[0]-2*f[1]+2*f[2]-f[3]) / (2 * bar * bar * bar)
 			diffs.second[i] = brownDennisLBFGSCentralAbs(f[1]-2*fx+f[2]) / (bar * bar)
@@ -429,7 +463,7 @@ func brownDennisLBFGSCentralCalibrate(x *[4]float64, fx float64, diffs *brownDen
 		diffs.ratio[i] = brownDennisLBFGSCentralClampBetween(h, 64*brownDennisLBFGSCentralUnitRoundoff*s, bar) / s
 		diffs.curvature[i] = third
 	}
-	return 4 * len(probe), true
+	return calls, true
 }
 
 // brownDennisLBFGSCentralAbs returns |v|.
@@ -455,10 +489,48 @@ func brownDennisLBFGSCentralLarger(a, b float64) float64 {
 	return b
 }
 
-// brownDennisLBFGSCentralProbeStep returns x_i moved by h, and the step actually representable.
-func brownDennisLBFGSCentralProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// brownDennisLBFGSCentralCoordinateRange: without bounds any probe is allowed.
+func brownDennisLBFGSCentralCoordinateRange(i int, diffs *brownDennisLBFGSCentralDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// brownDennisLBFGSCentralOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func brownDennisLBFGSCentralOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
+}
+
+// brownDennisLBFGSCentralProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func brownDennisLBFGSCentralProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := brownDennisLBFGSCentralClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// brownDennisLBFGSCentralClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func brownDennisLBFGSCentralClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
 }
 
 // brownDennisLBFGSCentralMagnitude is |v| for a finite v and 0 otherwise: a probe that fell
@@ -494,42 +566,85 @@ func brownDennisLBFGSCentralCubeRoot(v float64) float64 {
 	return math.Cbrt(v)
 }
 
-// brownDennisLBFGSCentralClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func brownDennisLBFGSCentralClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
-}
-
 // brownDennisLBFGSCentralDerivative approximates the gradient by central differences,
 //
 //	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),
 //
 // with the intervals brownDennisLBFGSCentralCalibrate chose, h_i = ratio_i·max(1, |x_i|)
-// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls; fx is
-// not needed.
-func brownDennisLBFGSCentralDerivative(x *[4]float64, fx float64, g *[4]float64, diffs *brownDennisLBFGSCentralDifferences) {
+// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls. Where
+// a bound leaves no room on one side, the three-point endpoint formula on
+// the other side takes its place at the same cost (see parabola); a
+// variable fixed by equal bounds costs nothing and gets 0.
+func brownDennisLBFGSCentralDerivative(x *[4]float64, fx float64, g *[4]float64, diffs *brownDennisLBFGSCentralDifferences) int {
 	probe := *x
+	calls := 0
 	for i := range probe {
 		xi := probe[i]
-		h := diffs.ratio[i] * brownDennisLBFGSCentralLarger(1, brownDennisLBFGSCentralAbs(xi))
-		up, _ := brownDennisLBFGSCentralProbeStep(xi, h)
-		down, _ := brownDennisLBFGSCentralProbeStep(xi, -h)
-		probe[i] = up
-		fUp := BrownDennis(&probe)
-		probe[i] = down
-		fDown := BrownDennis(&probe)
-		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
-		probe[i] = xi
+		h, oneSided := brownDennisLBFGSCentralCentralInterval(x, i, diffs)
+		lower, upper := brownDennisLBFGSCentralCoordinateRange(i, diffs)
+		switch {
+		case h == 0:
+			g[i] = 0 // fixed by equal bounds
+			continue
+		case oneSided:
+			g[i], _, _ = brownDennisLBFGSCentralSidedProbes(&probe, i, fx, h, lower, upper) // the three-point endpoint formula
+		default:
+			up, _ := brownDennisLBFGSCentralProbeStep(xi, h, lower, upper)
+			down, _ := brownDennisLBFGSCentralProbeStep(xi, -h, lower, upper)
+			probe[i] = up
+			fUp := BrownDennis(&probe)
+			probe[i] = down
+			fDown := BrownDennis(&probe)
+			g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+			probe[i] = xi
+		}
+		calls += 2
 	}
+	return calls
+}
+
+// brownDennisLBFGSCentralCentralInterval is the interval of coordinate i at x, ratio_i·max(1,
+// |x_i|), and whether the box leaves room for probes on both sides; when
+// it does not, the interval is signed towards the side with room for
+// probes at h and 2h, and shortened where the box is narrower than that
+// (see brownDennisLBFGSCentralOneSide).
+func brownDennisLBFGSCentralCentralInterval(x *[4]float64, i int, diffs *brownDennisLBFGSCentralDifferences) (h float64, oneSided bool) {
+	lower, upper := brownDennisLBFGSCentralCoordinateRange(i, diffs)
+	h = diffs.ratio[i] * brownDennisLBFGSCentralLarger(1, brownDennisLBFGSCentralAbs(x[i]))
+	if x[i]+h <= upper && x[i]-h >= lower {
+		return h, false
+	}
+	return brownDennisLBFGSCentralOneSide(x[i], h, 2, lower, upper), true
+}
+
+// brownDennisLBFGSCentralSidedProbes evaluates f at x moved along coordinate i by h and by 2h,
+// kept within [lower, upper], and returns the slope and second derivative
+// of the parabola through them and (x, fx) (see parabola), and the larger
+// magnitude of the two values.
+func brownDennisLBFGSCentralSidedProbes(probe *[4]float64, i int, fx, h, lower, upper float64) (slope, second, size float64) {
+	xi := probe[i]
+	near, a := brownDennisLBFGSCentralProbeStep(xi, h, lower, upper)
+	far, b := brownDennisLBFGSCentralProbeStep(xi, 2*h, lower, upper)
+	probe[i] = near
+	fNear := BrownDennis(probe)
+	probe[i] = far
+	fFar := BrownDennis(probe)
+	probe[i] = xi
+	slope, second = brownDennisLBFGSCentralParabola(fx, a, fNear, b, fFar)
+	return slope, second, brownDennisLBFGSCentralLarger(brownDennisLBFGSCentralMagnitude(fNear), brownDennisLBFGSCentralMagnitude(fFar))
+}
+
+// brownDennisLBFGSCentralParabola returns the first and second derivatives at 0 of the parabola
+// through (0, f0), (a, fa) and (b, fb), for probes on one side of a bound.
+// With b = 2a they are the three-point endpoint formulas
+// f′ ≈ (−3f0 + 4fa − fb)/(2a), error a²|f‴|/3, and
+// f″ ≈ (f0 − 2fa + fb)/a² (Burden & Faires, Numerical Analysis, §4.1
+// and §4.1's second-derivative formulas, from memory); written for unequal
+// a and b, so that the representable steps can be used.
+func brownDennisLBFGSCentralParabola(f0, a, fa, b, fb float64) (slope, second float64) {
+	slope = -(a+b)/(a*b)*f0 + b/(a*(b-a))*fa - a/(b*(b-a))*fb
+	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
+	return slope, second
 }
 
 // brownDennisLBFGSCentralDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
@@ -694,13 +809,13 @@ func brownDennisLBFGSCentralConfirmGradient(x *[4]float64, fx float64, g, e *[4]
 		wide.ratio[i] *= 2
 	}
 	var doubled [4]float64
-	brownDennisLBFGSCentralDerivative(x, fx, g, diffs)
-	brownDennisLBFGSCentralDerivative(x, fx, &doubled, &wide)
+	calls += brownDennisLBFGSCentralDerivative(x, fx, g, diffs)
+	calls += brownDennisLBFGSCentralDerivative(x, fx, &doubled, &wide)
 	brownDennisLBFGSCentralGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * brownDennisLBFGSCentralAbs(g[i]-doubled[i])
 	}
-	return calls + 2*brownDennisLBFGSCentralDerivativeCost, true
+	return calls, true
 }
 
 // brownDennisLBFGSCentralGradientError bounds each central difference's error by twice its
@@ -710,8 +825,16 @@ func brownDennisLBFGSCentralConfirmGradient(x *[4]float64, fx float64, g, e *[4]
 func brownDennisLBFGSCentralGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *brownDennisLBFGSCentralDifferences) {
 	noise := brownDennisLBFGSCentralNoiseLevel(x, fx, g)
 	for i := range e {
-		h := diffs.ratio[i] * brownDennisLBFGSCentralLarger(1, brownDennisLBFGSCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		h, oneSided := brownDennisLBFGSCentralCentralInterval(x, i, diffs)
+		h = brownDennisLBFGSCentralAbs(h)
+		switch {
+		case h == 0:
+			e[i] = 0 // fixed by equal bounds
+		case oneSided:
+			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+		default:
+			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		}
 	}
 }
 
@@ -733,6 +856,11 @@ func brownDennisLBFGSCentralRoundingFloor(x, g, e *[4]float64, diffs *brownDenni
 // calibration, which brownDennisLBFGSCentralConfirmGradient has just made at x.
 func brownDennisLBFGSCentralDiagonalCurvature(x, g *[4]float64, diffs *brownDennisLBFGSCentralDifferences, h *[4]float64) {
 	*h = diffs.second
+}
+
+// brownDennisLBFGSCentralStationarity measures the gradient itself.
+func brownDennisLBFGSCentralStationarity(g, e, x *[4]float64, fx float64, b *brownDennisLBFGSCentralBox) (measure, floor float64) {
+	return brownDennisLBFGSCentralGradientMeasure(g, e, x, fx)
 }
 
 // brownDennisLBFGSCentralGradientMeasure is the scale-free measure
@@ -768,6 +896,14 @@ func brownDennisLBFGSCentralStepWithin(s, x *[4]float64, tol float64) bool {
 	return true
 }
 
+// brownDennisLBFGSCentralCurvaturePair: without bounds the pair is used as it is.
+func brownDennisLBFGSCentralCurvaturePair(s, y, x *[4]float64, b *brownDennisLBFGSCentralBox) {}
+
+// brownDennisLBFGSCentralSearchDirection is the direction's own.
+func brownDennisLBFGSCentralSearchDirection(dir *brownDennisLBFGSCentralDirection, x, g, d *[4]float64, b *brownDennisLBFGSCentralBox) {
+	dir.compute(g, d)
+}
+
 // brownDennisLBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func brownDennisLBFGSCentralTinyStep(x, d *[4]float64, tol float64) float64 {
@@ -795,7 +931,10 @@ func brownDennisLBFGSCentralTinyStep(x, d *[4]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (brownDennisLBFGSCentralStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -804,13 +943,17 @@ func brownDennisLBFGSCentralTinyStep(x, d *[4]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func brownDennisLBFGSCentralLineSearch(x *[4]float64, fx float64, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *brownDennisLBFGSCentralDifferences) brownDennisLBFGSCentralLineResult {
+func brownDennisLBFGSCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *brownDennisLBFGSCentralDifferences) brownDennisLBFGSCentralLineResult {
 	low := brownDennisLBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high brownDennisLBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                       // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend brownDennisLBFGSCentralRiseTrend // of the trials failing sufficient decrease
+	var trend brownDennisLBFGSCentralRiseTrend                         // of the trials failing sufficient decrease
+	limit := brownDennisLBFGSCentralStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < brownDennisLBFGSCentralStepTrials; trial++ {
 		if bracketed && brownDennisLBFGSCentralAbs(high.step-low.step) <= tiny {
@@ -820,12 +963,12 @@ func brownDennisLBFGSCentralLineSearch(x *[4]float64, fx float64, d *[4]float64,
 			if low.step == 0 {
 				return brownDennisLBFGSCentralLineResult{calls: calls, rising: trend.contradicts(), end: brownDennisLBFGSCentralTinyOrExhausted(brownDennisLBFGSCentralFinite(high.value))}
 			}
-			return brownDennisLBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return brownDennisLBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return brownDennisLBFGSCentralLineResult{calls: calls, end: brownDennisLBFGSCentralSearchOutOfBudget}
 		}
-		brownDennisLBFGSCentralMoveTo(xt, x, t, d)
+		brownDennisLBFGSCentralTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := brownDennisLBFGSCentralLinePoint{step: t, value: BrownDennis(xt)}
 		calls++
 		previous := low
@@ -836,8 +979,7 @@ func brownDennisLBFGSCentralLineSearch(x *[4]float64, fx float64, d *[4]float64,
 			if calls+brownDennisLBFGSCentralDerivativeCost > budget {
 				return brownDennisLBFGSCentralLineResult{calls: calls, end: brownDennisLBFGSCentralSearchOutOfBudget}
 			}
-			brownDennisLBFGSCentralDerivative(xt, current.value, gt, diffs)
-			calls += brownDennisLBFGSCentralDerivativeCost
+			calls += brownDennisLBFGSCentralDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = brownDennisLBFGSCentralDot(gt, d), true
 			switch {
 			case !brownDennisLBFGSCentralFinite(current.slope):
@@ -848,18 +990,22 @@ func brownDennisLBFGSCentralLineSearch(x *[4]float64, fx float64, d *[4]float64,
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return brownDennisLBFGSCentralLineResult{step: t, value: current.value, calls: calls, gradient: true, end: brownDennisLBFGSCentralSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = brownDennisLBFGSCentralZoomTrial(&low, &high)
-		} else {
-			t = brownDennisLBFGSCentralExpandTrial(&previous, &current)
+		} else if t = brownDennisLBFGSCentralExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return brownDennisLBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return brownDennisLBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return brownDennisLBFGSCentralLineResult{calls: calls, rising: trend.contradicts(), end: brownDennisLBFGSCentralSearchExhausted}
 }
@@ -946,6 +1092,11 @@ func brownDennisLBFGSCentralFaithfulStep(x, xt, d *[4]float64, t float64) bool {
 	return true
 }
 
+// brownDennisLBFGSCentralStepCap: without bounds a step may be as long as the search wants.
+func brownDennisLBFGSCentralStepCap(x, d *[4]float64, tiny float64, b *brownDennisLBFGSCentralBox) float64 {
+	return math.Inf(1)
+}
+
 // brownDennisLBFGSCentralTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -970,10 +1121,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func brownDennisLBFGSCentralAcceptLow(x, d *[4]float64, low *brownDennisLBFGSCentralLinePoint, lowGradient *[4]float64, calls int, xt, gt *[4]float64) brownDennisLBFGSCentralLineResult {
-	brownDennisLBFGSCentralMoveTo(xt, x, low.step, d)
+func brownDennisLBFGSCentralAcceptLow(x, d *[4]float64, low *brownDennisLBFGSCentralLinePoint, lowGradient *[4]float64, calls int, xt, gt *[4]float64, diffs *brownDennisLBFGSCentralDifferences) brownDennisLBFGSCentralLineResult {
+	brownDennisLBFGSCentralTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return brownDennisLBFGSCentralLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: brownDennisLBFGSCentralSearchAccepted}
+}
+
+// brownDennisLBFGSCentralTrialPoint is x + t·d.
+func brownDennisLBFGSCentralTrialPoint(out, x *[4]float64, t float64, d *[4]float64, b *brownDennisLBFGSCentralBox) {
+	brownDennisLBFGSCentralMoveTo(out, x, t, d)
 }
 
 // brownDennisLBFGSCentralMoveTo sets out = x + t·d.

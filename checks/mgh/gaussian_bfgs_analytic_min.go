@@ -88,6 +88,9 @@ func GaussianBFGSAnalyticDefaultLimits() GaussianBFGSAnalyticLimits {
 	}
 }
 
+// gaussianBFGSAnalyticBox is empty: mgh.toml sets no bounds on GaussianBFGSAnalytic.
+type gaussianBFGSAnalyticBox struct{}
+
 // GaussianBFGSAnalytic minimizes Gaussian from x0, as mgh.toml specifies.
 //
 // Direction bfgs: BFGS quasi-Newton with a dense inverse-Hessian approximation (dim² numbers).
@@ -105,7 +108,7 @@ func GaussianBFGSAnalytic(x0 [3]float64) GaussianBFGSAnalyticResult {
 
 // GaussianBFGSAnalyticWithLimits is GaussianBFGSAnalytic with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func GaussianBFGSAnalyticWithLimits(x0 [3]float64, limits GaussianBFGSAnalyticLimits) GaussianBFGSAnalyticResult {
-	out := gaussianBFGSAnalyticMinimize(x0, limits)
+	out := gaussianBFGSAnalyticMinimize(x0, limits, gaussianBFGSAnalyticBox{})
 	return GaussianBFGSAnalyticResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func gaussianBFGSAnalyticMinimize(x0 [3]float64, lim GaussianBFGSAnalyticLimits) gaussianBFGSAnalyticOutcome {
-	out := gaussianBFGSAnalyticOutcome{x: x0, status: GaussianBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
+func gaussianBFGSAnalyticMinimize(x0 [3]float64, lim GaussianBFGSAnalyticLimits, bounds gaussianBFGSAnalyticBox) gaussianBFGSAnalyticOutcome {
+	x := x0
+	gaussianBFGSAnalyticEnterBox(&x, &bounds)
+	out := gaussianBFGSAnalyticOutcome{x: x, status: GaussianBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := Gaussian(&x)
 	out.f, out.evaluations = fx, 1
 	if !gaussianBFGSAnalyticFinite(fx) || !gaussianBFGSAnalyticFiniteVec(&x) {
 		out.status = GaussianBFGSAnalyticNonFiniteStart
 		return out
 	}
-	var diffs gaussianBFGSAnalyticDifferences
+	diffs := gaussianBFGSAnalyticDifferences{bounds: bounds}
 	calls, ok := gaussianBFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+gaussianBFGSAnalyticDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [3]float64
-	gaussianBFGSAnalyticDerivative(&x, fx, &g, &diffs)
-	out.evaluations += gaussianBFGSAnalyticDerivativeCost
+	out.evaluations += gaussianBFGSAnalyticDerivative(&x, fx, &g, &diffs)
 
 	if !gaussianBFGSAnalyticFiniteVec(&g) {
 		out.status = GaussianBFGSAnalyticNonFiniteGradient
@@ -211,7 +214,7 @@ func gaussianBFGSAnalyticMinimize(x0 [3]float64, lim GaussianBFGSAnalyticLimits)
 		case !confirmed:
 			gaussianBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := gaussianBFGSAnalyticGradientMeasure(&g, &e, &x, fx)
+		measure, floor := gaussianBFGSAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, gaussianBFGSAnalyticLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func gaussianBFGSAnalyticMinimize(x0 [3]float64, lim GaussianBFGSAnalyticLimits)
 			if rises >= 8 {
 				return best.ending(GaussianBFGSAnalyticDiverged, out.iterations, out.evaluations)
 			}
+			gaussianBFGSAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(GaussianBFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		gaussianBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := gaussianBFGSAnalyticDot(&g, &d)
 		if !(now < 0) || !gaussianBFGSAnalyticFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			gaussianBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = gaussianBFGSAnalyticDot(&g, &d)
 		}
 		first := float64(gaussianBFGSAnalyticStepInitial)
@@ -267,7 +271,7 @@ func gaussianBFGSAnalyticMinimize(x0 [3]float64, lim GaussianBFGSAnalyticLimits)
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := gaussianBFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := gaussianBFGSAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := gaussianBFGSAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case gaussianBFGSAnalyticSearchOutOfBudget:
@@ -303,8 +307,7 @@ func gaussianBFGSAnalyticMinimize(x0 [3]float64, lim GaussianBFGSAnalyticLimits)
 				}
 				return best.ending(GaussianBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			gaussianBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += gaussianBFGSAnalyticDerivativeCost
+			out.evaluations += gaussianBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		gaussianBFGSAnalyticDifference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o gaussianBFGSAnalyticOutcome) ending(end GaussianBFGSAnalyticStatus, iter
 	return o
 }
 
+// gaussianBFGSAnalyticEnterBox: without bounds every start is inside.
+func gaussianBFGSAnalyticEnterBox(x *[3]float64, b *gaussianBFGSAnalyticBox) {}
+
 // gaussianBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func gaussianBFGSAnalyticFiniteVec(x *[3]float64) bool {
 	return true
 }
 
-// gaussianBFGSAnalyticDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// gaussianBFGSAnalyticDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type gaussianBFGSAnalyticDifferences struct {
 	ratio     [3]float64
 	curvature [3]float64
 	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see gaussianBFGSAnalyticRoundingFloor)
+	bounds    gaussianBFGSAnalyticBox
 }
 
 // gaussianBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
@@ -384,8 +392,9 @@ func gaussianBFGSAnalyticCalibrate(x *[3]float64, fx float64, diffs *gaussianBFG
 }
 
 // gaussianBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func gaussianBFGSAnalyticDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *gaussianBFGSAnalyticDifferences) {
+func gaussianBFGSAnalyticDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *gaussianBFGSAnalyticDifferences) int {
 	GaussianGrad(x, g)
+	return 0
 }
 
 // gaussianBFGSAnalyticDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
@@ -525,13 +534,13 @@ func gaussianBFGSAnalyticConfirmGradient(x *[3]float64, fx float64, g, e *[3]flo
 		wide.ratio[i] *= 2
 	}
 	var doubled [3]float64
-	gaussianBFGSAnalyticDerivative(x, fx, g, diffs)
-	gaussianBFGSAnalyticDerivative(x, fx, &doubled, &wide)
+	calls += gaussianBFGSAnalyticDerivative(x, fx, g, diffs)
+	calls += gaussianBFGSAnalyticDerivative(x, fx, &doubled, &wide)
 	gaussianBFGSAnalyticGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * gaussianBFGSAnalyticAbs(g[i]-doubled[i])
 	}
-	return calls + 2*gaussianBFGSAnalyticDerivativeCost, true
+	return calls, true
 }
 
 // gaussianBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
@@ -573,18 +582,60 @@ func gaussianBFGSAnalyticDiagonalCurvature(x, g *[3]float64, diffs *gaussianBFGS
 	var moved [3]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := gaussianBFGSAnalyticProbeStep(xi, gaussianBFGSAnalyticSquareRoot(gaussianBFGSAnalyticUnitRoundoff)*gaussianBFGSAnalyticLarger(1, gaussianBFGSAnalyticAbs(xi)))
-		probe[i] = up
-		GaussianGrad(&probe, &moved)
-		h[i] = gaussianBFGSAnalyticAbs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := gaussianBFGSAnalyticCoordinateRange(i, diffs)
+		up, delta := gaussianBFGSAnalyticProbeStep(xi, gaussianBFGSAnalyticOneSide(xi, gaussianBFGSAnalyticSquareRoot(gaussianBFGSAnalyticUnitRoundoff)*gaussianBFGSAnalyticLarger(1, gaussianBFGSAnalyticAbs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			GaussianGrad(&probe, &moved)
+			h[i] = gaussianBFGSAnalyticAbs(moved[i]-g[i]) / gaussianBFGSAnalyticAbs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// gaussianBFGSAnalyticProbeStep returns x_i moved by h, and the step actually representable.
-func gaussianBFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// gaussianBFGSAnalyticCoordinateRange: without bounds any probe is allowed.
+func gaussianBFGSAnalyticCoordinateRange(i int, diffs *gaussianBFGSAnalyticDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// gaussianBFGSAnalyticProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func gaussianBFGSAnalyticProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := gaussianBFGSAnalyticClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// gaussianBFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func gaussianBFGSAnalyticClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// gaussianBFGSAnalyticOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func gaussianBFGSAnalyticOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // gaussianBFGSAnalyticSquareRoot returns √v.
@@ -600,6 +651,11 @@ func gaussianBFGSAnalyticLarger(a, b float64) float64 {
 		return a
 	}
 	return b
+}
+
+// gaussianBFGSAnalyticStationarity measures the gradient itself.
+func gaussianBFGSAnalyticStationarity(g, e, x *[3]float64, fx float64, b *gaussianBFGSAnalyticBox) (measure, floor float64) {
+	return gaussianBFGSAnalyticGradientMeasure(g, e, x, fx)
 }
 
 // gaussianBFGSAnalyticGradientMeasure is the scale-free measure
@@ -635,6 +691,14 @@ func gaussianBFGSAnalyticStepWithin(s, x *[3]float64, tol float64) bool {
 	return true
 }
 
+// gaussianBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
+func gaussianBFGSAnalyticCurvaturePair(s, y, x *[3]float64, b *gaussianBFGSAnalyticBox) {}
+
+// gaussianBFGSAnalyticSearchDirection is the direction's own.
+func gaussianBFGSAnalyticSearchDirection(dir *gaussianBFGSAnalyticDirection, x, g, d *[3]float64, b *gaussianBFGSAnalyticBox) {
+	dir.compute(g, d)
+}
+
 // gaussianBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func gaussianBFGSAnalyticTinyStep(x, d *[3]float64, tol float64) float64 {
@@ -662,7 +726,10 @@ func gaussianBFGSAnalyticTinyStep(x, d *[3]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (gaussianBFGSAnalyticStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -671,13 +738,17 @@ func gaussianBFGSAnalyticTinyStep(x, d *[3]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func gaussianBFGSAnalyticLineSearch(x *[3]float64, fx float64, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *gaussianBFGSAnalyticDifferences) gaussianBFGSAnalyticLineResult {
+func gaussianBFGSAnalyticLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *gaussianBFGSAnalyticDifferences) gaussianBFGSAnalyticLineResult {
 	low := gaussianBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high gaussianBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                                    // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend gaussianBFGSAnalyticRiseTrend // of the trials failing sufficient decrease
+	var trend gaussianBFGSAnalyticRiseTrend                         // of the trials failing sufficient decrease
+	limit := gaussianBFGSAnalyticStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < gaussianBFGSAnalyticStepTrials; trial++ {
 		if bracketed && gaussianBFGSAnalyticAbs(high.step-low.step) <= tiny {
@@ -687,12 +758,12 @@ func gaussianBFGSAnalyticLineSearch(x *[3]float64, fx float64, d *[3]float64, sl
 			if low.step == 0 {
 				return gaussianBFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: gaussianBFGSAnalyticTinyOrExhausted(gaussianBFGSAnalyticFinite(high.value))}
 			}
-			return gaussianBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return gaussianBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return gaussianBFGSAnalyticLineResult{calls: calls, end: gaussianBFGSAnalyticSearchOutOfBudget}
 		}
-		gaussianBFGSAnalyticMoveTo(xt, x, t, d)
+		gaussianBFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := gaussianBFGSAnalyticLinePoint{step: t, value: Gaussian(xt)}
 		calls++
 		previous := low
@@ -703,8 +774,7 @@ func gaussianBFGSAnalyticLineSearch(x *[3]float64, fx float64, d *[3]float64, sl
 			if calls+gaussianBFGSAnalyticDerivativeCost > budget {
 				return gaussianBFGSAnalyticLineResult{calls: calls, end: gaussianBFGSAnalyticSearchOutOfBudget}
 			}
-			gaussianBFGSAnalyticDerivative(xt, current.value, gt, diffs)
-			calls += gaussianBFGSAnalyticDerivativeCost
+			calls += gaussianBFGSAnalyticDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = gaussianBFGSAnalyticDot(gt, d), true
 			switch {
 			case !gaussianBFGSAnalyticFinite(current.slope):
@@ -715,18 +785,22 @@ func gaussianBFGSAnalyticLineSearch(x *[3]float64, fx float64, d *[3]float64, sl
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return gaussianBFGSAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: gaussianBFGSAnalyticSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = gaussianBFGSAnalyticZoomTrial(&low, &high)
-		} else {
-			t = gaussianBFGSAnalyticExpandTrial(&previous, &current)
+		} else if t = gaussianBFGSAnalyticExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return gaussianBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return gaussianBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return gaussianBFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: gaussianBFGSAnalyticSearchExhausted}
 }
@@ -813,6 +887,11 @@ func gaussianBFGSAnalyticFaithfulStep(x, xt, d *[3]float64, t float64) bool {
 	return true
 }
 
+// gaussianBFGSAnalyticStepCap: without bounds a step may be as long as the search wants.
+func gaussianBFGSAnalyticStepCap(x, d *[3]float64, tiny float64, b *gaussianBFGSAnalyticBox) float64 {
+	return math.Inf(1)
+}
+
 // gaussianBFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -837,10 +916,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func gaussianBFGSAnalyticAcceptLow(x, d *[3]float64, low *gaussianBFGSAnalyticLinePoint, lowGradient *[3]float64, calls int, xt, gt *[3]float64) gaussianBFGSAnalyticLineResult {
-	gaussianBFGSAnalyticMoveTo(xt, x, low.step, d)
+func gaussianBFGSAnalyticAcceptLow(x, d *[3]float64, low *gaussianBFGSAnalyticLinePoint, lowGradient *[3]float64, calls int, xt, gt *[3]float64, diffs *gaussianBFGSAnalyticDifferences) gaussianBFGSAnalyticLineResult {
+	gaussianBFGSAnalyticTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return gaussianBFGSAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: gaussianBFGSAnalyticSearchAccepted}
+}
+
+// gaussianBFGSAnalyticTrialPoint is x + t·d.
+func gaussianBFGSAnalyticTrialPoint(out, x *[3]float64, t float64, d *[3]float64, b *gaussianBFGSAnalyticBox) {
+	gaussianBFGSAnalyticMoveTo(out, x, t, d)
 }
 
 // gaussianBFGSAnalyticMoveTo sets out = x + t·d.
@@ -895,21 +979,6 @@ func gaussianBFGSAnalyticModelMinimizer(a, b *gaussianBFGSAnalyticLinePoint) (t 
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, gaussianBFGSAnalyticFinite(t)
-}
-
-// gaussianBFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func gaussianBFGSAnalyticClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // gaussianBFGSAnalyticExpandTrial picks a larger trial after current met sufficient decrease

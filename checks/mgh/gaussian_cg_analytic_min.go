@@ -88,6 +88,9 @@ func GaussianCGAnalyticDefaultLimits() GaussianCGAnalyticLimits {
 	}
 }
 
+// gaussianCGAnalyticBox is empty: mgh.toml sets no bounds on GaussianCGAnalytic.
+type gaussianCGAnalyticBox struct{}
+
 // GaussianCGAnalytic minimizes Gaussian from x0, as mgh.toml specifies.
 //
 // Direction cg: nonlinear conjugate gradients, Polak–Ribière clipped at zero (PR+), restarted every dim steps.
@@ -105,7 +108,7 @@ func GaussianCGAnalytic(x0 [3]float64) GaussianCGAnalyticResult {
 
 // GaussianCGAnalyticWithLimits is GaussianCGAnalytic with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func GaussianCGAnalyticWithLimits(x0 [3]float64, limits GaussianCGAnalyticLimits) GaussianCGAnalyticResult {
-	out := gaussianCGAnalyticMinimize(x0, limits)
+	out := gaussianCGAnalyticMinimize(x0, limits, gaussianCGAnalyticBox{})
 	return GaussianCGAnalyticResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func gaussianCGAnalyticMinimize(x0 [3]float64, lim GaussianCGAnalyticLimits) gaussianCGAnalyticOutcome {
-	out := gaussianCGAnalyticOutcome{x: x0, status: GaussianCGAnalyticOutOfEvaluations, gradient: math.NaN()}
+func gaussianCGAnalyticMinimize(x0 [3]float64, lim GaussianCGAnalyticLimits, bounds gaussianCGAnalyticBox) gaussianCGAnalyticOutcome {
+	x := x0
+	gaussianCGAnalyticEnterBox(&x, &bounds)
+	out := gaussianCGAnalyticOutcome{x: x, status: GaussianCGAnalyticOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := Gaussian(&x)
 	out.f, out.evaluations = fx, 1
 	if !gaussianCGAnalyticFinite(fx) || !gaussianCGAnalyticFiniteVec(&x) {
 		out.status = GaussianCGAnalyticNonFiniteStart
 		return out
 	}
-	var diffs gaussianCGAnalyticDifferences
+	diffs := gaussianCGAnalyticDifferences{bounds: bounds}
 	calls, ok := gaussianCGAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+gaussianCGAnalyticDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [3]float64
-	gaussianCGAnalyticDerivative(&x, fx, &g, &diffs)
-	out.evaluations += gaussianCGAnalyticDerivativeCost
+	out.evaluations += gaussianCGAnalyticDerivative(&x, fx, &g, &diffs)
 
 	if !gaussianCGAnalyticFiniteVec(&g) {
 		out.status = GaussianCGAnalyticNonFiniteGradient
@@ -211,7 +214,7 @@ func gaussianCGAnalyticMinimize(x0 [3]float64, lim GaussianCGAnalyticLimits) gau
 		case !confirmed:
 			gaussianCGAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := gaussianCGAnalyticGradientMeasure(&g, &e, &x, fx)
+		measure, floor := gaussianCGAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, gaussianCGAnalyticLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func gaussianCGAnalyticMinimize(x0 [3]float64, lim GaussianCGAnalyticLimits) gau
 			if rises >= 8 {
 				return best.ending(GaussianCGAnalyticDiverged, out.iterations, out.evaluations)
 			}
+			gaussianCGAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(GaussianCGAnalyticOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		gaussianCGAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := gaussianCGAnalyticDot(&g, &d)
 		if !(now < 0) || !gaussianCGAnalyticFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			gaussianCGAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = gaussianCGAnalyticDot(&g, &d)
 		}
 		first := float64(gaussianCGAnalyticStepInitial)
@@ -267,7 +271,7 @@ func gaussianCGAnalyticMinimize(x0 [3]float64, lim GaussianCGAnalyticLimits) gau
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := gaussianCGAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := gaussianCGAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := gaussianCGAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case gaussianCGAnalyticSearchOutOfBudget:
@@ -303,8 +307,7 @@ func gaussianCGAnalyticMinimize(x0 [3]float64, lim GaussianCGAnalyticLimits) gau
 				}
 				return best.ending(GaussianCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			gaussianCGAnalyticDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += gaussianCGAnalyticDerivativeCost
+			out.evaluations += gaussianCGAnalyticDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		gaussianCGAnalyticDifference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o gaussianCGAnalyticOutcome) ending(end GaussianCGAnalyticStatus, iteratio
 	return o
 }
 
+// gaussianCGAnalyticEnterBox: without bounds every start is inside.
+func gaussianCGAnalyticEnterBox(x *[3]float64, b *gaussianCGAnalyticBox) {}
+
 // gaussianCGAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func gaussianCGAnalyticFiniteVec(x *[3]float64) bool {
 	return true
 }
 
-// gaussianCGAnalyticDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// gaussianCGAnalyticDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type gaussianCGAnalyticDifferences struct {
 	ratio     [3]float64
 	curvature [3]float64
 	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see gaussianCGAnalyticRoundingFloor)
+	bounds    gaussianCGAnalyticBox
 }
 
 // gaussianCGAnalyticCalibrate: an analytic gradient needs no intervals.
@@ -384,8 +392,9 @@ func gaussianCGAnalyticCalibrate(x *[3]float64, fx float64, diffs *gaussianCGAna
 }
 
 // gaussianCGAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func gaussianCGAnalyticDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *gaussianCGAnalyticDifferences) {
+func gaussianCGAnalyticDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *gaussianCGAnalyticDifferences) int {
 	GaussianGrad(x, g)
+	return 0
 }
 
 // gaussianCGAnalyticDirection is nonlinear conjugate gradients with the Polak–Ribière
@@ -517,13 +526,13 @@ func gaussianCGAnalyticConfirmGradient(x *[3]float64, fx float64, g, e *[3]float
 		wide.ratio[i] *= 2
 	}
 	var doubled [3]float64
-	gaussianCGAnalyticDerivative(x, fx, g, diffs)
-	gaussianCGAnalyticDerivative(x, fx, &doubled, &wide)
+	calls += gaussianCGAnalyticDerivative(x, fx, g, diffs)
+	calls += gaussianCGAnalyticDerivative(x, fx, &doubled, &wide)
 	gaussianCGAnalyticGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * gaussianCGAnalyticAbs(g[i]-doubled[i])
 	}
-	return calls + 2*gaussianCGAnalyticDerivativeCost, true
+	return calls, true
 }
 
 // gaussianCGAnalyticGradientError: the analytic gradient is taken as exact; its error is
@@ -565,23 +574,70 @@ func gaussianCGAnalyticDiagonalCurvature(x, g *[3]float64, diffs *gaussianCGAnal
 	var moved [3]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := gaussianCGAnalyticProbeStep(xi, gaussianCGAnalyticSquareRoot(gaussianCGAnalyticUnitRoundoff)*gaussianCGAnalyticLarger(1, gaussianCGAnalyticAbs(xi)))
-		probe[i] = up
-		GaussianGrad(&probe, &moved)
-		h[i] = gaussianCGAnalyticAbs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := gaussianCGAnalyticCoordinateRange(i, diffs)
+		up, delta := gaussianCGAnalyticProbeStep(xi, gaussianCGAnalyticOneSide(xi, gaussianCGAnalyticSquareRoot(gaussianCGAnalyticUnitRoundoff)*gaussianCGAnalyticLarger(1, gaussianCGAnalyticAbs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			GaussianGrad(&probe, &moved)
+			h[i] = gaussianCGAnalyticAbs(moved[i]-g[i]) / gaussianCGAnalyticAbs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// gaussianCGAnalyticProbeStep returns x_i moved by h, and the step actually representable.
-func gaussianCGAnalyticProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// gaussianCGAnalyticCoordinateRange: without bounds any probe is allowed.
+func gaussianCGAnalyticCoordinateRange(i int, diffs *gaussianCGAnalyticDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// gaussianCGAnalyticProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func gaussianCGAnalyticProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := gaussianCGAnalyticClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// gaussianCGAnalyticClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func gaussianCGAnalyticClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// gaussianCGAnalyticOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func gaussianCGAnalyticOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // gaussianCGAnalyticSquareRoot returns √v.
 func gaussianCGAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// gaussianCGAnalyticStationarity measures the gradient itself.
+func gaussianCGAnalyticStationarity(g, e, x *[3]float64, fx float64, b *gaussianCGAnalyticBox) (measure, floor float64) {
+	return gaussianCGAnalyticGradientMeasure(g, e, x, fx)
 }
 
 // gaussianCGAnalyticGradientMeasure is the scale-free measure
@@ -617,6 +673,14 @@ func gaussianCGAnalyticStepWithin(s, x *[3]float64, tol float64) bool {
 	return true
 }
 
+// gaussianCGAnalyticCurvaturePair: without bounds the pair is used as it is.
+func gaussianCGAnalyticCurvaturePair(s, y, x *[3]float64, b *gaussianCGAnalyticBox) {}
+
+// gaussianCGAnalyticSearchDirection is the direction's own.
+func gaussianCGAnalyticSearchDirection(dir *gaussianCGAnalyticDirection, x, g, d *[3]float64, b *gaussianCGAnalyticBox) {
+	dir.compute(g, d)
+}
+
 // gaussianCGAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func gaussianCGAnalyticTinyStep(x, d *[3]float64, tol float64) float64 {
@@ -644,7 +708,10 @@ func gaussianCGAnalyticTinyStep(x, d *[3]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (gaussianCGAnalyticStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -653,13 +720,17 @@ func gaussianCGAnalyticTinyStep(x, d *[3]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func gaussianCGAnalyticLineSearch(x *[3]float64, fx float64, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *gaussianCGAnalyticDifferences) gaussianCGAnalyticLineResult {
+func gaussianCGAnalyticLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *gaussianCGAnalyticDifferences) gaussianCGAnalyticLineResult {
 	low := gaussianCGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high gaussianCGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                                  // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend gaussianCGAnalyticRiseTrend // of the trials failing sufficient decrease
+	var trend gaussianCGAnalyticRiseTrend                         // of the trials failing sufficient decrease
+	limit := gaussianCGAnalyticStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < gaussianCGAnalyticStepTrials; trial++ {
 		if bracketed && gaussianCGAnalyticAbs(high.step-low.step) <= tiny {
@@ -669,12 +740,12 @@ func gaussianCGAnalyticLineSearch(x *[3]float64, fx float64, d *[3]float64, slop
 			if low.step == 0 {
 				return gaussianCGAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: gaussianCGAnalyticTinyOrExhausted(gaussianCGAnalyticFinite(high.value))}
 			}
-			return gaussianCGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return gaussianCGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return gaussianCGAnalyticLineResult{calls: calls, end: gaussianCGAnalyticSearchOutOfBudget}
 		}
-		gaussianCGAnalyticMoveTo(xt, x, t, d)
+		gaussianCGAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := gaussianCGAnalyticLinePoint{step: t, value: Gaussian(xt)}
 		calls++
 		previous := low
@@ -685,8 +756,7 @@ func gaussianCGAnalyticLineSearch(x *[3]float64, fx float64, d *[3]float64, slop
 			if calls+gaussianCGAnalyticDerivativeCost > budget {
 				return gaussianCGAnalyticLineResult{calls: calls, end: gaussianCGAnalyticSearchOutOfBudget}
 			}
-			gaussianCGAnalyticDerivative(xt, current.value, gt, diffs)
-			calls += gaussianCGAnalyticDerivativeCost
+			calls += gaussianCGAnalyticDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = gaussianCGAnalyticDot(gt, d), true
 			switch {
 			case !gaussianCGAnalyticFinite(current.slope):
@@ -697,18 +767,22 @@ func gaussianCGAnalyticLineSearch(x *[3]float64, fx float64, d *[3]float64, slop
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return gaussianCGAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: gaussianCGAnalyticSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = gaussianCGAnalyticZoomTrial(&low, &high)
-		} else {
-			t = gaussianCGAnalyticExpandTrial(&previous, &current)
+		} else if t = gaussianCGAnalyticExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return gaussianCGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return gaussianCGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return gaussianCGAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: gaussianCGAnalyticSearchExhausted}
 }
@@ -795,6 +869,11 @@ func gaussianCGAnalyticFaithfulStep(x, xt, d *[3]float64, t float64) bool {
 	return true
 }
 
+// gaussianCGAnalyticStepCap: without bounds a step may be as long as the search wants.
+func gaussianCGAnalyticStepCap(x, d *[3]float64, tiny float64, b *gaussianCGAnalyticBox) float64 {
+	return math.Inf(1)
+}
+
 // gaussianCGAnalyticTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -819,10 +898,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func gaussianCGAnalyticAcceptLow(x, d *[3]float64, low *gaussianCGAnalyticLinePoint, lowGradient *[3]float64, calls int, xt, gt *[3]float64) gaussianCGAnalyticLineResult {
-	gaussianCGAnalyticMoveTo(xt, x, low.step, d)
+func gaussianCGAnalyticAcceptLow(x, d *[3]float64, low *gaussianCGAnalyticLinePoint, lowGradient *[3]float64, calls int, xt, gt *[3]float64, diffs *gaussianCGAnalyticDifferences) gaussianCGAnalyticLineResult {
+	gaussianCGAnalyticTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return gaussianCGAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: gaussianCGAnalyticSearchAccepted}
+}
+
+// gaussianCGAnalyticTrialPoint is x + t·d.
+func gaussianCGAnalyticTrialPoint(out, x *[3]float64, t float64, d *[3]float64, b *gaussianCGAnalyticBox) {
+	gaussianCGAnalyticMoveTo(out, x, t, d)
 }
 
 // gaussianCGAnalyticMoveTo sets out = x + t·d.
@@ -877,21 +961,6 @@ func gaussianCGAnalyticModelMinimizer(a, b *gaussianCGAnalyticLinePoint) (t floa
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, gaussianCGAnalyticFinite(t)
-}
-
-// gaussianCGAnalyticClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func gaussianCGAnalyticClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // gaussianCGAnalyticExpandTrial picks a larger trial after current met sufficient decrease

@@ -88,6 +88,9 @@ func GaussianCGCentralDefaultLimits() GaussianCGCentralLimits {
 	}
 }
 
+// gaussianCGCentralBox is empty: mgh.toml sets no bounds on GaussianCGCentral.
+type gaussianCGCentralBox struct{}
+
 // GaussianCGCentral minimizes Gaussian from x0, as mgh.toml specifies.
 //
 // Direction cg: nonlinear conjugate gradients, Polak–Ribière clipped at zero (PR+), restarted every dim steps.
@@ -105,7 +108,7 @@ func GaussianCGCentral(x0 [3]float64) GaussianCGCentralResult {
 
 // GaussianCGCentralWithLimits is GaussianCGCentral with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func GaussianCGCentralWithLimits(x0 [3]float64, limits GaussianCGCentralLimits) GaussianCGCentralResult {
-	out := gaussianCGCentralMinimize(x0, limits)
+	out := gaussianCGCentralMinimize(x0, limits, gaussianCGCentralBox{})
 	return GaussianCGCentralResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func gaussianCGCentralMinimize(x0 [3]float64, lim GaussianCGCentralLimits) gaussianCGCentralOutcome {
-	out := gaussianCGCentralOutcome{x: x0, status: GaussianCGCentralOutOfEvaluations, gradient: math.NaN()}
+func gaussianCGCentralMinimize(x0 [3]float64, lim GaussianCGCentralLimits, bounds gaussianCGCentralBox) gaussianCGCentralOutcome {
+	x := x0
+	gaussianCGCentralEnterBox(&x, &bounds)
+	out := gaussianCGCentralOutcome{x: x, status: GaussianCGCentralOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := Gaussian(&x)
 	out.f, out.evaluations = fx, 1
 	if !gaussianCGCentralFinite(fx) || !gaussianCGCentralFiniteVec(&x) {
 		out.status = GaussianCGCentralNonFiniteStart
 		return out
 	}
-	var diffs gaussianCGCentralDifferences
+	diffs := gaussianCGCentralDifferences{bounds: bounds}
 	calls, ok := gaussianCGCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+gaussianCGCentralDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [3]float64
-	gaussianCGCentralDerivative(&x, fx, &g, &diffs)
-	out.evaluations += gaussianCGCentralDerivativeCost
+	out.evaluations += gaussianCGCentralDerivative(&x, fx, &g, &diffs)
 
 	if !gaussianCGCentralFiniteVec(&g) {
 		out.status = GaussianCGCentralNonFiniteGradient
@@ -211,7 +214,7 @@ func gaussianCGCentralMinimize(x0 [3]float64, lim GaussianCGCentralLimits) gauss
 		case !confirmed:
 			gaussianCGCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := gaussianCGCentralGradientMeasure(&g, &e, &x, fx)
+		measure, floor := gaussianCGCentralStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, gaussianCGCentralLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func gaussianCGCentralMinimize(x0 [3]float64, lim GaussianCGCentralLimits) gauss
 			if rises >= 8 {
 				return best.ending(GaussianCGCentralDiverged, out.iterations, out.evaluations)
 			}
+			gaussianCGCentralCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(GaussianCGCentralOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		gaussianCGCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := gaussianCGCentralDot(&g, &d)
 		if !(now < 0) || !gaussianCGCentralFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			gaussianCGCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = gaussianCGCentralDot(&g, &d)
 		}
 		first := float64(gaussianCGCentralStepInitial)
@@ -267,7 +271,7 @@ func gaussianCGCentralMinimize(x0 [3]float64, lim GaussianCGCentralLimits) gauss
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := gaussianCGCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := gaussianCGCentralLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := gaussianCGCentralLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case gaussianCGCentralSearchOutOfBudget:
@@ -303,8 +307,7 @@ func gaussianCGCentralMinimize(x0 [3]float64, lim GaussianCGCentralLimits) gauss
 				}
 				return best.ending(GaussianCGCentralOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			gaussianCGCentralDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += gaussianCGCentralDerivativeCost
+			out.evaluations += gaussianCGCentralDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		gaussianCGCentralDifference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o gaussianCGCentralOutcome) ending(end GaussianCGCentralStatus, iterations
 	return o
 }
 
+// gaussianCGCentralEnterBox: without bounds every start is inside.
+func gaussianCGCentralEnterBox(x *[3]float64, b *gaussianCGCentralBox) {}
+
 // gaussianCGCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func gaussianCGCentralFiniteVec(x *[3]float64) bool {
 	return true
 }
 
-// gaussianCGCentralDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// gaussianCGCentralDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type gaussianCGCentralDifferences struct {
 	ratio     [3]float64
 	curvature [3]float64
 	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see gaussianCGCentralRoundingFloor)
+	bounds    gaussianCGCentralBox
 }
 
 // gaussianCGCentralCalibrate chooses each central-difference interval from the
@@ -397,19 +405,45 @@ func gaussianCGCentralCalibrate(x *[3]float64, fx float64, diffs *gaussianCGCent
 	var slope [3]float64
 	scale := gaussianCGCentralAbs(fx)
 	quarter := gaussianCGCentralSquareRoot(gaussianCGCentralSquareRoot(gaussianCGCentralUnitRoundoff)) // u^(1/4)
+	calls := 0
 	for i := range probe {
-		if 4*(i+1) > budget {
-			return 4 * i, false
+		if calls+4 > budget {
+			return calls, false
 		}
 		xi := probe[i]
 		bar := quarter * gaussianCGCentralLarger(1, gaussianCGCentralAbs(xi))
+		lower, upper := gaussianCGCentralCoordinateRange(i, diffs)
+		if xi+2*bar > upper || xi-2*bar < lower {
+			// At a bound: three probes on the side with room, at h, 2h
+			// and 3h, for f‴ ≈ (f(3h) − 3f(2h) + 3f(h) − f(0))/h³ (the
+			// third forward difference).
+			h := gaussianCGCentralOneSide(xi, bar, 3, lower, upper)
+			if h == 0 {
+				continue // fixed by equal bounds
+			}
+			var f [3]float64
+			for k := range f {
+				probe[i], _ = gaussianCGCentralProbeStep(xi, float64(k+1)*h, lower, upper)
+				f[k] = Gaussian(&probe)
+				scale = gaussianCGCentralLarger(scale, gaussianCGCentralMagnitude(f[k]))
+			}
+			probe[i] = xi
+			calls += 3
+			if gaussianCGCentralFinite(f[0]) && gaussianCGCentralFinite(f[1]) && gaussianCGCentralFinite(f[2]) {
+				diffs.curvature[i] = gaussianCGCentralAbs(f[2]-3*f[1]+3*f[0]-fx) / gaussianCGCentralAbs(h*h*h)
+				diffs.second[i] = gaussianCGCentralAbs(fx-2*f[0]+f[1]) / (h * h)
+				slope[i] = (-3*fx + 4*f[0] - f[1]) / (2 * h)
+			}
+			continue
+		}
 		var f [4]float64
 		for k, m := range [4]float64{2, 1, -1, -2} {
-			probe[i], _ = gaussianCGCentralProbeStep(xi, m*bar)
+			probe[i], _ = gaussianCGCentralProbeStep(xi, m*bar, lower, upper)
 			f[k] = Gaussian(&probe)
 			scale = gaussianCGCentralLarger(scale, gaussianCGCentralMagnitude(f[k]))
 		}
 		probe[i] = xi
+		calls += 4
 		if gaussianCGCentralFinite(f[0]) && gaussianCGCentralFinite(f[1]) && gaussianCGCentralFinite(f[2]) && gaussianCGCentralFinite(f[3]) {
 			diffs.curvature[i] = gaussianCGCentralAbs(f[0]-2*f[1]+2*f[2]-f[3]) / (2 * bar * bar * bar)
 			diffs.second[i] = gaussianCGCentralAbs(f[1]-2*fx+f[2]) / (bar * bar)
@@ -428,7 +462,7 @@ func gaussianCGCentralCalibrate(x *[3]float64, fx float64, diffs *gaussianCGCent
 		diffs.ratio[i] = gaussianCGCentralClampBetween(h, 64*gaussianCGCentralUnitRoundoff*s, bar) / s
 		diffs.curvature[i] = third
 	}
-	return 4 * len(probe), true
+	return calls, true
 }
 
 // gaussianCGCentralAbs returns |v|.
@@ -454,10 +488,48 @@ func gaussianCGCentralLarger(a, b float64) float64 {
 	return b
 }
 
-// gaussianCGCentralProbeStep returns x_i moved by h, and the step actually representable.
-func gaussianCGCentralProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// gaussianCGCentralCoordinateRange: without bounds any probe is allowed.
+func gaussianCGCentralCoordinateRange(i int, diffs *gaussianCGCentralDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// gaussianCGCentralOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func gaussianCGCentralOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
+}
+
+// gaussianCGCentralProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func gaussianCGCentralProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := gaussianCGCentralClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// gaussianCGCentralClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func gaussianCGCentralClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
 }
 
 // gaussianCGCentralMagnitude is |v| for a finite v and 0 otherwise: a probe that fell
@@ -493,42 +565,85 @@ func gaussianCGCentralCubeRoot(v float64) float64 {
 	return math.Cbrt(v)
 }
 
-// gaussianCGCentralClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func gaussianCGCentralClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
-}
-
 // gaussianCGCentralDerivative approximates the gradient by central differences,
 //
 //	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),
 //
 // with the intervals gaussianCGCentralCalibrate chose, h_i = ratio_i·max(1, |x_i|)
-// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls; fx is
-// not needed.
-func gaussianCGCentralDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *gaussianCGCentralDifferences) {
+// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls. Where
+// a bound leaves no room on one side, the three-point endpoint formula on
+// the other side takes its place at the same cost (see parabola); a
+// variable fixed by equal bounds costs nothing and gets 0.
+func gaussianCGCentralDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *gaussianCGCentralDifferences) int {
 	probe := *x
+	calls := 0
 	for i := range probe {
 		xi := probe[i]
-		h := diffs.ratio[i] * gaussianCGCentralLarger(1, gaussianCGCentralAbs(xi))
-		up, _ := gaussianCGCentralProbeStep(xi, h)
-		down, _ := gaussianCGCentralProbeStep(xi, -h)
-		probe[i] = up
-		fUp := Gaussian(&probe)
-		probe[i] = down
-		fDown := Gaussian(&probe)
-		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
-		probe[i] = xi
+		h, oneSided := gaussianCGCentralCentralInterval(x, i, diffs)
+		lower, upper := gaussianCGCentralCoordinateRange(i, diffs)
+		switch {
+		case h == 0:
+			g[i] = 0 // fixed by equal bounds
+			continue
+		case oneSided:
+			g[i], _, _ = gaussianCGCentralSidedProbes(&probe, i, fx, h, lower, upper) // the three-point endpoint formula
+		default:
+			up, _ := gaussianCGCentralProbeStep(xi, h, lower, upper)
+			down, _ := gaussianCGCentralProbeStep(xi, -h, lower, upper)
+			probe[i] = up
+			fUp := Gaussian(&probe)
+			probe[i] = down
+			fDown := Gaussian(&probe)
+			g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+			probe[i] = xi
+		}
+		calls += 2
 	}
+	return calls
+}
+
+// gaussianCGCentralCentralInterval is the interval of coordinate i at x, ratio_i·max(1,
+// |x_i|), and whether the box leaves room for probes on both sides; when
+// it does not, the interval is signed towards the side with room for
+// probes at h and 2h, and shortened where the box is narrower than that
+// (see gaussianCGCentralOneSide).
+func gaussianCGCentralCentralInterval(x *[3]float64, i int, diffs *gaussianCGCentralDifferences) (h float64, oneSided bool) {
+	lower, upper := gaussianCGCentralCoordinateRange(i, diffs)
+	h = diffs.ratio[i] * gaussianCGCentralLarger(1, gaussianCGCentralAbs(x[i]))
+	if x[i]+h <= upper && x[i]-h >= lower {
+		return h, false
+	}
+	return gaussianCGCentralOneSide(x[i], h, 2, lower, upper), true
+}
+
+// gaussianCGCentralSidedProbes evaluates f at x moved along coordinate i by h and by 2h,
+// kept within [lower, upper], and returns the slope and second derivative
+// of the parabola through them and (x, fx) (see parabola), and the larger
+// magnitude of the two values.
+func gaussianCGCentralSidedProbes(probe *[3]float64, i int, fx, h, lower, upper float64) (slope, second, size float64) {
+	xi := probe[i]
+	near, a := gaussianCGCentralProbeStep(xi, h, lower, upper)
+	far, b := gaussianCGCentralProbeStep(xi, 2*h, lower, upper)
+	probe[i] = near
+	fNear := Gaussian(probe)
+	probe[i] = far
+	fFar := Gaussian(probe)
+	probe[i] = xi
+	slope, second = gaussianCGCentralParabola(fx, a, fNear, b, fFar)
+	return slope, second, gaussianCGCentralLarger(gaussianCGCentralMagnitude(fNear), gaussianCGCentralMagnitude(fFar))
+}
+
+// gaussianCGCentralParabola returns the first and second derivatives at 0 of the parabola
+// through (0, f0), (a, fa) and (b, fb), for probes on one side of a bound.
+// With b = 2a they are the three-point endpoint formulas
+// f′ ≈ (−3f0 + 4fa − fb)/(2a), error a²|f‴|/3, and
+// f″ ≈ (f0 − 2fa + fb)/a² (Burden & Faires, Numerical Analysis, §4.1
+// and §4.1's second-derivative formulas, from memory); written for unequal
+// a and b, so that the representable steps can be used.
+func gaussianCGCentralParabola(f0, a, fa, b, fb float64) (slope, second float64) {
+	slope = -(a+b)/(a*b)*f0 + b/(a*(b-a))*fa - a/(b*(b-a))*fb
+	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
+	return slope, second
 }
 
 // gaussianCGCentralDirection is nonlinear conjugate gradients with the Polak–Ribière
@@ -650,13 +765,13 @@ func gaussianCGCentralConfirmGradient(x *[3]float64, fx float64, g, e *[3]float6
 		wide.ratio[i] *= 2
 	}
 	var doubled [3]float64
-	gaussianCGCentralDerivative(x, fx, g, diffs)
-	gaussianCGCentralDerivative(x, fx, &doubled, &wide)
+	calls += gaussianCGCentralDerivative(x, fx, g, diffs)
+	calls += gaussianCGCentralDerivative(x, fx, &doubled, &wide)
 	gaussianCGCentralGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * gaussianCGCentralAbs(g[i]-doubled[i])
 	}
-	return calls + 2*gaussianCGCentralDerivativeCost, true
+	return calls, true
 }
 
 // gaussianCGCentralGradientError bounds each central difference's error by twice its
@@ -666,8 +781,16 @@ func gaussianCGCentralConfirmGradient(x *[3]float64, fx float64, g, e *[3]float6
 func gaussianCGCentralGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *gaussianCGCentralDifferences) {
 	noise := gaussianCGCentralNoiseLevel(x, fx, g)
 	for i := range e {
-		h := diffs.ratio[i] * gaussianCGCentralLarger(1, gaussianCGCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		h, oneSided := gaussianCGCentralCentralInterval(x, i, diffs)
+		h = gaussianCGCentralAbs(h)
+		switch {
+		case h == 0:
+			e[i] = 0 // fixed by equal bounds
+		case oneSided:
+			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+		default:
+			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		}
 	}
 }
 
@@ -689,6 +812,11 @@ func gaussianCGCentralRoundingFloor(x, g, e *[3]float64, diffs *gaussianCGCentra
 // calibration, which gaussianCGCentralConfirmGradient has just made at x.
 func gaussianCGCentralDiagonalCurvature(x, g *[3]float64, diffs *gaussianCGCentralDifferences, h *[3]float64) {
 	*h = diffs.second
+}
+
+// gaussianCGCentralStationarity measures the gradient itself.
+func gaussianCGCentralStationarity(g, e, x *[3]float64, fx float64, b *gaussianCGCentralBox) (measure, floor float64) {
+	return gaussianCGCentralGradientMeasure(g, e, x, fx)
 }
 
 // gaussianCGCentralGradientMeasure is the scale-free measure
@@ -724,6 +852,14 @@ func gaussianCGCentralStepWithin(s, x *[3]float64, tol float64) bool {
 	return true
 }
 
+// gaussianCGCentralCurvaturePair: without bounds the pair is used as it is.
+func gaussianCGCentralCurvaturePair(s, y, x *[3]float64, b *gaussianCGCentralBox) {}
+
+// gaussianCGCentralSearchDirection is the direction's own.
+func gaussianCGCentralSearchDirection(dir *gaussianCGCentralDirection, x, g, d *[3]float64, b *gaussianCGCentralBox) {
+	dir.compute(g, d)
+}
+
 // gaussianCGCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func gaussianCGCentralTinyStep(x, d *[3]float64, tol float64) float64 {
@@ -751,7 +887,10 @@ func gaussianCGCentralTinyStep(x, d *[3]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (gaussianCGCentralStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -760,13 +899,17 @@ func gaussianCGCentralTinyStep(x, d *[3]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func gaussianCGCentralLineSearch(x *[3]float64, fx float64, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *gaussianCGCentralDifferences) gaussianCGCentralLineResult {
+func gaussianCGCentralLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *gaussianCGCentralDifferences) gaussianCGCentralLineResult {
 	low := gaussianCGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high gaussianCGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                                 // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend gaussianCGCentralRiseTrend // of the trials failing sufficient decrease
+	var trend gaussianCGCentralRiseTrend                         // of the trials failing sufficient decrease
+	limit := gaussianCGCentralStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < gaussianCGCentralStepTrials; trial++ {
 		if bracketed && gaussianCGCentralAbs(high.step-low.step) <= tiny {
@@ -776,12 +919,12 @@ func gaussianCGCentralLineSearch(x *[3]float64, fx float64, d *[3]float64, slope
 			if low.step == 0 {
 				return gaussianCGCentralLineResult{calls: calls, rising: trend.contradicts(), end: gaussianCGCentralTinyOrExhausted(gaussianCGCentralFinite(high.value))}
 			}
-			return gaussianCGCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return gaussianCGCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return gaussianCGCentralLineResult{calls: calls, end: gaussianCGCentralSearchOutOfBudget}
 		}
-		gaussianCGCentralMoveTo(xt, x, t, d)
+		gaussianCGCentralTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := gaussianCGCentralLinePoint{step: t, value: Gaussian(xt)}
 		calls++
 		previous := low
@@ -792,8 +935,7 @@ func gaussianCGCentralLineSearch(x *[3]float64, fx float64, d *[3]float64, slope
 			if calls+gaussianCGCentralDerivativeCost > budget {
 				return gaussianCGCentralLineResult{calls: calls, end: gaussianCGCentralSearchOutOfBudget}
 			}
-			gaussianCGCentralDerivative(xt, current.value, gt, diffs)
-			calls += gaussianCGCentralDerivativeCost
+			calls += gaussianCGCentralDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = gaussianCGCentralDot(gt, d), true
 			switch {
 			case !gaussianCGCentralFinite(current.slope):
@@ -804,18 +946,22 @@ func gaussianCGCentralLineSearch(x *[3]float64, fx float64, d *[3]float64, slope
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return gaussianCGCentralLineResult{step: t, value: current.value, calls: calls, gradient: true, end: gaussianCGCentralSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = gaussianCGCentralZoomTrial(&low, &high)
-		} else {
-			t = gaussianCGCentralExpandTrial(&previous, &current)
+		} else if t = gaussianCGCentralExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return gaussianCGCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return gaussianCGCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return gaussianCGCentralLineResult{calls: calls, rising: trend.contradicts(), end: gaussianCGCentralSearchExhausted}
 }
@@ -902,6 +1048,11 @@ func gaussianCGCentralFaithfulStep(x, xt, d *[3]float64, t float64) bool {
 	return true
 }
 
+// gaussianCGCentralStepCap: without bounds a step may be as long as the search wants.
+func gaussianCGCentralStepCap(x, d *[3]float64, tiny float64, b *gaussianCGCentralBox) float64 {
+	return math.Inf(1)
+}
+
 // gaussianCGCentralTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -926,10 +1077,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func gaussianCGCentralAcceptLow(x, d *[3]float64, low *gaussianCGCentralLinePoint, lowGradient *[3]float64, calls int, xt, gt *[3]float64) gaussianCGCentralLineResult {
-	gaussianCGCentralMoveTo(xt, x, low.step, d)
+func gaussianCGCentralAcceptLow(x, d *[3]float64, low *gaussianCGCentralLinePoint, lowGradient *[3]float64, calls int, xt, gt *[3]float64, diffs *gaussianCGCentralDifferences) gaussianCGCentralLineResult {
+	gaussianCGCentralTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return gaussianCGCentralLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: gaussianCGCentralSearchAccepted}
+}
+
+// gaussianCGCentralTrialPoint is x + t·d.
+func gaussianCGCentralTrialPoint(out, x *[3]float64, t float64, d *[3]float64, b *gaussianCGCentralBox) {
+	gaussianCGCentralMoveTo(out, x, t, d)
 }
 
 // gaussianCGCentralMoveTo sets out = x + t·d.

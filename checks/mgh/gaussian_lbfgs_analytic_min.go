@@ -88,6 +88,9 @@ func GaussianLBFGSAnalyticDefaultLimits() GaussianLBFGSAnalyticLimits {
 	}
 }
 
+// gaussianLBFGSAnalyticBox is empty: mgh.toml sets no bounds on GaussianLBFGSAnalytic.
+type gaussianLBFGSAnalyticBox struct{}
+
 // GaussianLBFGSAnalytic minimizes Gaussian from x0, as mgh.toml specifies.
 //
 // Direction lbfgs: limited-memory BFGS: the last `memory` pairs, two-loop recursion (2·memory·dim numbers).
@@ -105,7 +108,7 @@ func GaussianLBFGSAnalytic(x0 [3]float64) GaussianLBFGSAnalyticResult {
 
 // GaussianLBFGSAnalyticWithLimits is GaussianLBFGSAnalytic with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func GaussianLBFGSAnalyticWithLimits(x0 [3]float64, limits GaussianLBFGSAnalyticLimits) GaussianLBFGSAnalyticResult {
-	out := gaussianLBFGSAnalyticMinimize(x0, limits)
+	out := gaussianLBFGSAnalyticMinimize(x0, limits, gaussianLBFGSAnalyticBox{})
 	return GaussianLBFGSAnalyticResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -159,27 +162,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func gaussianLBFGSAnalyticMinimize(x0 [3]float64, lim GaussianLBFGSAnalyticLimits) gaussianLBFGSAnalyticOutcome {
-	out := gaussianLBFGSAnalyticOutcome{x: x0, status: GaussianLBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
+func gaussianLBFGSAnalyticMinimize(x0 [3]float64, lim GaussianLBFGSAnalyticLimits, bounds gaussianLBFGSAnalyticBox) gaussianLBFGSAnalyticOutcome {
+	x := x0
+	gaussianLBFGSAnalyticEnterBox(&x, &bounds)
+	out := gaussianLBFGSAnalyticOutcome{x: x, status: GaussianLBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := Gaussian(&x)
 	out.f, out.evaluations = fx, 1
 	if !gaussianLBFGSAnalyticFinite(fx) || !gaussianLBFGSAnalyticFiniteVec(&x) {
 		out.status = GaussianLBFGSAnalyticNonFiniteStart
 		return out
 	}
-	var diffs gaussianLBFGSAnalyticDifferences
+	diffs := gaussianLBFGSAnalyticDifferences{bounds: bounds}
 	calls, ok := gaussianLBFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+gaussianLBFGSAnalyticDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [3]float64
-	gaussianLBFGSAnalyticDerivative(&x, fx, &g, &diffs)
-	out.evaluations += gaussianLBFGSAnalyticDerivativeCost
+	out.evaluations += gaussianLBFGSAnalyticDerivative(&x, fx, &g, &diffs)
 
 	if !gaussianLBFGSAnalyticFiniteVec(&g) {
 		out.status = GaussianLBFGSAnalyticNonFiniteGradient
@@ -212,7 +215,7 @@ func gaussianLBFGSAnalyticMinimize(x0 [3]float64, lim GaussianLBFGSAnalyticLimit
 		case !confirmed:
 			gaussianLBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := gaussianLBFGSAnalyticGradientMeasure(&g, &e, &x, fx)
+		measure, floor := gaussianLBFGSAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, gaussianLBFGSAnalyticLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -251,16 +254,17 @@ func gaussianLBFGSAnalyticMinimize(x0 [3]float64, lim GaussianLBFGSAnalyticLimit
 			if rises >= 8 {
 				return best.ending(GaussianLBFGSAnalyticDiverged, out.iterations, out.evaluations)
 			}
+			gaussianLBFGSAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(GaussianLBFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		gaussianLBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := gaussianLBFGSAnalyticDot(&g, &d)
 		if !(now < 0) || !gaussianLBFGSAnalyticFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			gaussianLBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = gaussianLBFGSAnalyticDot(&g, &d)
 		}
 		first := float64(gaussianLBFGSAnalyticStepInitial)
@@ -268,7 +272,7 @@ func gaussianLBFGSAnalyticMinimize(x0 [3]float64, lim GaussianLBFGSAnalyticLimit
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := gaussianLBFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := gaussianLBFGSAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := gaussianLBFGSAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case gaussianLBFGSAnalyticSearchOutOfBudget:
@@ -304,8 +308,7 @@ func gaussianLBFGSAnalyticMinimize(x0 [3]float64, lim GaussianLBFGSAnalyticLimit
 				}
 				return best.ending(GaussianLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			gaussianLBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += gaussianLBFGSAnalyticDerivativeCost
+			out.evaluations += gaussianLBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		gaussianLBFGSAnalyticDifference(&s, &xt, &x)
@@ -346,6 +349,9 @@ func (o gaussianLBFGSAnalyticOutcome) ending(end GaussianLBFGSAnalyticStatus, it
 	return o
 }
 
+// gaussianLBFGSAnalyticEnterBox: without bounds every start is inside.
+func gaussianLBFGSAnalyticEnterBox(x *[3]float64, b *gaussianLBFGSAnalyticBox) {}
+
 // gaussianLBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -368,15 +374,17 @@ func gaussianLBFGSAnalyticFiniteVec(x *[3]float64) bool {
 	return true
 }
 
-// gaussianLBFGSAnalyticDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// gaussianLBFGSAnalyticDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type gaussianLBFGSAnalyticDifferences struct {
 	ratio     [3]float64
 	curvature [3]float64
 	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see gaussianLBFGSAnalyticRoundingFloor)
+	bounds    gaussianLBFGSAnalyticBox
 }
 
 // gaussianLBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
@@ -385,8 +393,9 @@ func gaussianLBFGSAnalyticCalibrate(x *[3]float64, fx float64, diffs *gaussianLB
 }
 
 // gaussianLBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func gaussianLBFGSAnalyticDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *gaussianLBFGSAnalyticDifferences) {
+func gaussianLBFGSAnalyticDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *gaussianLBFGSAnalyticDifferences) int {
 	GaussianGrad(x, g)
+	return 0
 }
 
 // gaussianLBFGSAnalyticDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
@@ -551,13 +560,13 @@ func gaussianLBFGSAnalyticConfirmGradient(x *[3]float64, fx float64, g, e *[3]fl
 		wide.ratio[i] *= 2
 	}
 	var doubled [3]float64
-	gaussianLBFGSAnalyticDerivative(x, fx, g, diffs)
-	gaussianLBFGSAnalyticDerivative(x, fx, &doubled, &wide)
+	calls += gaussianLBFGSAnalyticDerivative(x, fx, g, diffs)
+	calls += gaussianLBFGSAnalyticDerivative(x, fx, &doubled, &wide)
 	gaussianLBFGSAnalyticGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * gaussianLBFGSAnalyticAbs(g[i]-doubled[i])
 	}
-	return calls + 2*gaussianLBFGSAnalyticDerivativeCost, true
+	return calls, true
 }
 
 // gaussianLBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
@@ -599,18 +608,60 @@ func gaussianLBFGSAnalyticDiagonalCurvature(x, g *[3]float64, diffs *gaussianLBF
 	var moved [3]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := gaussianLBFGSAnalyticProbeStep(xi, gaussianLBFGSAnalyticSquareRoot(gaussianLBFGSAnalyticUnitRoundoff)*gaussianLBFGSAnalyticLarger(1, gaussianLBFGSAnalyticAbs(xi)))
-		probe[i] = up
-		GaussianGrad(&probe, &moved)
-		h[i] = gaussianLBFGSAnalyticAbs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := gaussianLBFGSAnalyticCoordinateRange(i, diffs)
+		up, delta := gaussianLBFGSAnalyticProbeStep(xi, gaussianLBFGSAnalyticOneSide(xi, gaussianLBFGSAnalyticSquareRoot(gaussianLBFGSAnalyticUnitRoundoff)*gaussianLBFGSAnalyticLarger(1, gaussianLBFGSAnalyticAbs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			GaussianGrad(&probe, &moved)
+			h[i] = gaussianLBFGSAnalyticAbs(moved[i]-g[i]) / gaussianLBFGSAnalyticAbs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// gaussianLBFGSAnalyticProbeStep returns x_i moved by h, and the step actually representable.
-func gaussianLBFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// gaussianLBFGSAnalyticCoordinateRange: without bounds any probe is allowed.
+func gaussianLBFGSAnalyticCoordinateRange(i int, diffs *gaussianLBFGSAnalyticDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// gaussianLBFGSAnalyticProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func gaussianLBFGSAnalyticProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := gaussianLBFGSAnalyticClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// gaussianLBFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func gaussianLBFGSAnalyticClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// gaussianLBFGSAnalyticOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func gaussianLBFGSAnalyticOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // gaussianLBFGSAnalyticSquareRoot returns √v.
@@ -626,6 +677,11 @@ func gaussianLBFGSAnalyticLarger(a, b float64) float64 {
 		return a
 	}
 	return b
+}
+
+// gaussianLBFGSAnalyticStationarity measures the gradient itself.
+func gaussianLBFGSAnalyticStationarity(g, e, x *[3]float64, fx float64, b *gaussianLBFGSAnalyticBox) (measure, floor float64) {
+	return gaussianLBFGSAnalyticGradientMeasure(g, e, x, fx)
 }
 
 // gaussianLBFGSAnalyticGradientMeasure is the scale-free measure
@@ -661,6 +717,14 @@ func gaussianLBFGSAnalyticStepWithin(s, x *[3]float64, tol float64) bool {
 	return true
 }
 
+// gaussianLBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
+func gaussianLBFGSAnalyticCurvaturePair(s, y, x *[3]float64, b *gaussianLBFGSAnalyticBox) {}
+
+// gaussianLBFGSAnalyticSearchDirection is the direction's own.
+func gaussianLBFGSAnalyticSearchDirection(dir *gaussianLBFGSAnalyticDirection, x, g, d *[3]float64, b *gaussianLBFGSAnalyticBox) {
+	dir.compute(g, d)
+}
+
 // gaussianLBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func gaussianLBFGSAnalyticTinyStep(x, d *[3]float64, tol float64) float64 {
@@ -688,7 +752,10 @@ func gaussianLBFGSAnalyticTinyStep(x, d *[3]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (gaussianLBFGSAnalyticStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -697,13 +764,17 @@ func gaussianLBFGSAnalyticTinyStep(x, d *[3]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func gaussianLBFGSAnalyticLineSearch(x *[3]float64, fx float64, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *gaussianLBFGSAnalyticDifferences) gaussianLBFGSAnalyticLineResult {
+func gaussianLBFGSAnalyticLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *gaussianLBFGSAnalyticDifferences) gaussianLBFGSAnalyticLineResult {
 	low := gaussianLBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high gaussianLBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                                     // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend gaussianLBFGSAnalyticRiseTrend // of the trials failing sufficient decrease
+	var trend gaussianLBFGSAnalyticRiseTrend                         // of the trials failing sufficient decrease
+	limit := gaussianLBFGSAnalyticStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < gaussianLBFGSAnalyticStepTrials; trial++ {
 		if bracketed && gaussianLBFGSAnalyticAbs(high.step-low.step) <= tiny {
@@ -713,12 +784,12 @@ func gaussianLBFGSAnalyticLineSearch(x *[3]float64, fx float64, d *[3]float64, s
 			if low.step == 0 {
 				return gaussianLBFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: gaussianLBFGSAnalyticTinyOrExhausted(gaussianLBFGSAnalyticFinite(high.value))}
 			}
-			return gaussianLBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return gaussianLBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return gaussianLBFGSAnalyticLineResult{calls: calls, end: gaussianLBFGSAnalyticSearchOutOfBudget}
 		}
-		gaussianLBFGSAnalyticMoveTo(xt, x, t, d)
+		gaussianLBFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := gaussianLBFGSAnalyticLinePoint{step: t, value: Gaussian(xt)}
 		calls++
 		previous := low
@@ -729,8 +800,7 @@ func gaussianLBFGSAnalyticLineSearch(x *[3]float64, fx float64, d *[3]float64, s
 			if calls+gaussianLBFGSAnalyticDerivativeCost > budget {
 				return gaussianLBFGSAnalyticLineResult{calls: calls, end: gaussianLBFGSAnalyticSearchOutOfBudget}
 			}
-			gaussianLBFGSAnalyticDerivative(xt, current.value, gt, diffs)
-			calls += gaussianLBFGSAnalyticDerivativeCost
+			calls += gaussianLBFGSAnalyticDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = gaussianLBFGSAnalyticDot(gt, d), true
 			switch {
 			case !gaussianLBFGSAnalyticFinite(current.slope):
@@ -741,18 +811,22 @@ func gaussianLBFGSAnalyticLineSearch(x *[3]float64, fx float64, d *[3]float64, s
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return gaussianLBFGSAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: gaussianLBFGSAnalyticSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = gaussianLBFGSAnalyticZoomTrial(&low, &high)
-		} else {
-			t = gaussianLBFGSAnalyticExpandTrial(&previous, &current)
+		} else if t = gaussianLBFGSAnalyticExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return gaussianLBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return gaussianLBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return gaussianLBFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: gaussianLBFGSAnalyticSearchExhausted}
 }
@@ -839,6 +913,11 @@ func gaussianLBFGSAnalyticFaithfulStep(x, xt, d *[3]float64, t float64) bool {
 	return true
 }
 
+// gaussianLBFGSAnalyticStepCap: without bounds a step may be as long as the search wants.
+func gaussianLBFGSAnalyticStepCap(x, d *[3]float64, tiny float64, b *gaussianLBFGSAnalyticBox) float64 {
+	return math.Inf(1)
+}
+
 // gaussianLBFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -863,10 +942,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func gaussianLBFGSAnalyticAcceptLow(x, d *[3]float64, low *gaussianLBFGSAnalyticLinePoint, lowGradient *[3]float64, calls int, xt, gt *[3]float64) gaussianLBFGSAnalyticLineResult {
-	gaussianLBFGSAnalyticMoveTo(xt, x, low.step, d)
+func gaussianLBFGSAnalyticAcceptLow(x, d *[3]float64, low *gaussianLBFGSAnalyticLinePoint, lowGradient *[3]float64, calls int, xt, gt *[3]float64, diffs *gaussianLBFGSAnalyticDifferences) gaussianLBFGSAnalyticLineResult {
+	gaussianLBFGSAnalyticTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return gaussianLBFGSAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: gaussianLBFGSAnalyticSearchAccepted}
+}
+
+// gaussianLBFGSAnalyticTrialPoint is x + t·d.
+func gaussianLBFGSAnalyticTrialPoint(out, x *[3]float64, t float64, d *[3]float64, b *gaussianLBFGSAnalyticBox) {
+	gaussianLBFGSAnalyticMoveTo(out, x, t, d)
 }
 
 // gaussianLBFGSAnalyticMoveTo sets out = x + t·d.
@@ -921,21 +1005,6 @@ func gaussianLBFGSAnalyticModelMinimizer(a, b *gaussianLBFGSAnalyticLinePoint) (
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, gaussianLBFGSAnalyticFinite(t)
-}
-
-// gaussianLBFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func gaussianLBFGSAnalyticClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // gaussianLBFGSAnalyticExpandTrial picks a larger trial after current met sufficient decrease

@@ -88,6 +88,9 @@ func GulfRDBFGSAnalyticDefaultLimits() GulfRDBFGSAnalyticLimits {
 	}
 }
 
+// gulfRDBFGSAnalyticBox is empty: mgh.toml sets no bounds on GulfRDBFGSAnalytic.
+type gulfRDBFGSAnalyticBox struct{}
+
 // GulfRDBFGSAnalytic minimizes GulfRD from x0, as mgh.toml specifies.
 //
 // Direction bfgs: BFGS quasi-Newton with a dense inverse-Hessian approximation (dim² numbers).
@@ -105,7 +108,7 @@ func GulfRDBFGSAnalytic(x0 [3]float64) GulfRDBFGSAnalyticResult {
 
 // GulfRDBFGSAnalyticWithLimits is GulfRDBFGSAnalytic with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func GulfRDBFGSAnalyticWithLimits(x0 [3]float64, limits GulfRDBFGSAnalyticLimits) GulfRDBFGSAnalyticResult {
-	out := gulfRDBFGSAnalyticMinimize(x0, limits)
+	out := gulfRDBFGSAnalyticMinimize(x0, limits, gulfRDBFGSAnalyticBox{})
 	return GulfRDBFGSAnalyticResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func gulfRDBFGSAnalyticMinimize(x0 [3]float64, lim GulfRDBFGSAnalyticLimits) gulfRDBFGSAnalyticOutcome {
-	out := gulfRDBFGSAnalyticOutcome{x: x0, status: GulfRDBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
+func gulfRDBFGSAnalyticMinimize(x0 [3]float64, lim GulfRDBFGSAnalyticLimits, bounds gulfRDBFGSAnalyticBox) gulfRDBFGSAnalyticOutcome {
+	x := x0
+	gulfRDBFGSAnalyticEnterBox(&x, &bounds)
+	out := gulfRDBFGSAnalyticOutcome{x: x, status: GulfRDBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := GulfRD(&x)
 	out.f, out.evaluations = fx, 1
 	if !gulfRDBFGSAnalyticFinite(fx) || !gulfRDBFGSAnalyticFiniteVec(&x) {
 		out.status = GulfRDBFGSAnalyticNonFiniteStart
 		return out
 	}
-	var diffs gulfRDBFGSAnalyticDifferences
+	diffs := gulfRDBFGSAnalyticDifferences{bounds: bounds}
 	calls, ok := gulfRDBFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+gulfRDBFGSAnalyticDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [3]float64
-	gulfRDBFGSAnalyticDerivative(&x, fx, &g, &diffs)
-	out.evaluations += gulfRDBFGSAnalyticDerivativeCost
+	out.evaluations += gulfRDBFGSAnalyticDerivative(&x, fx, &g, &diffs)
 
 	if !gulfRDBFGSAnalyticFiniteVec(&g) {
 		out.status = GulfRDBFGSAnalyticNonFiniteGradient
@@ -211,7 +214,7 @@ func gulfRDBFGSAnalyticMinimize(x0 [3]float64, lim GulfRDBFGSAnalyticLimits) gul
 		case !confirmed:
 			gulfRDBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := gulfRDBFGSAnalyticGradientMeasure(&g, &e, &x, fx)
+		measure, floor := gulfRDBFGSAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, gulfRDBFGSAnalyticLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func gulfRDBFGSAnalyticMinimize(x0 [3]float64, lim GulfRDBFGSAnalyticLimits) gul
 			if rises >= 8 {
 				return best.ending(GulfRDBFGSAnalyticDiverged, out.iterations, out.evaluations)
 			}
+			gulfRDBFGSAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(GulfRDBFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		gulfRDBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := gulfRDBFGSAnalyticDot(&g, &d)
 		if !(now < 0) || !gulfRDBFGSAnalyticFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			gulfRDBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = gulfRDBFGSAnalyticDot(&g, &d)
 		}
 		first := float64(gulfRDBFGSAnalyticStepInitial)
@@ -267,7 +271,7 @@ func gulfRDBFGSAnalyticMinimize(x0 [3]float64, lim GulfRDBFGSAnalyticLimits) gul
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := gulfRDBFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := gulfRDBFGSAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := gulfRDBFGSAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case gulfRDBFGSAnalyticSearchOutOfBudget:
@@ -303,8 +307,7 @@ func gulfRDBFGSAnalyticMinimize(x0 [3]float64, lim GulfRDBFGSAnalyticLimits) gul
 				}
 				return best.ending(GulfRDBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			gulfRDBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += gulfRDBFGSAnalyticDerivativeCost
+			out.evaluations += gulfRDBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		gulfRDBFGSAnalyticDifference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o gulfRDBFGSAnalyticOutcome) ending(end GulfRDBFGSAnalyticStatus, iteratio
 	return o
 }
 
+// gulfRDBFGSAnalyticEnterBox: without bounds every start is inside.
+func gulfRDBFGSAnalyticEnterBox(x *[3]float64, b *gulfRDBFGSAnalyticBox) {}
+
 // gulfRDBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func gulfRDBFGSAnalyticFiniteVec(x *[3]float64) bool {
 	return true
 }
 
-// gulfRDBFGSAnalyticDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// gulfRDBFGSAnalyticDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type gulfRDBFGSAnalyticDifferences struct {
 	ratio     [3]float64
 	curvature [3]float64
 	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see gulfRDBFGSAnalyticRoundingFloor)
+	bounds    gulfRDBFGSAnalyticBox
 }
 
 // gulfRDBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
@@ -384,8 +392,9 @@ func gulfRDBFGSAnalyticCalibrate(x *[3]float64, fx float64, diffs *gulfRDBFGSAna
 }
 
 // gulfRDBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func gulfRDBFGSAnalyticDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *gulfRDBFGSAnalyticDifferences) {
+func gulfRDBFGSAnalyticDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *gulfRDBFGSAnalyticDifferences) int {
 	GulfRDGrad(x, g)
+	return 0
 }
 
 // gulfRDBFGSAnalyticDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
@@ -525,13 +534,13 @@ func gulfRDBFGSAnalyticConfirmGradient(x *[3]float64, fx float64, g, e *[3]float
 		wide.ratio[i] *= 2
 	}
 	var doubled [3]float64
-	gulfRDBFGSAnalyticDerivative(x, fx, g, diffs)
-	gulfRDBFGSAnalyticDerivative(x, fx, &doubled, &wide)
+	calls += gulfRDBFGSAnalyticDerivative(x, fx, g, diffs)
+	calls += gulfRDBFGSAnalyticDerivative(x, fx, &doubled, &wide)
 	gulfRDBFGSAnalyticGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * gulfRDBFGSAnalyticAbs(g[i]-doubled[i])
 	}
-	return calls + 2*gulfRDBFGSAnalyticDerivativeCost, true
+	return calls, true
 }
 
 // gulfRDBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
@@ -573,18 +582,60 @@ func gulfRDBFGSAnalyticDiagonalCurvature(x, g *[3]float64, diffs *gulfRDBFGSAnal
 	var moved [3]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := gulfRDBFGSAnalyticProbeStep(xi, gulfRDBFGSAnalyticSquareRoot(gulfRDBFGSAnalyticUnitRoundoff)*gulfRDBFGSAnalyticLarger(1, gulfRDBFGSAnalyticAbs(xi)))
-		probe[i] = up
-		GulfRDGrad(&probe, &moved)
-		h[i] = gulfRDBFGSAnalyticAbs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := gulfRDBFGSAnalyticCoordinateRange(i, diffs)
+		up, delta := gulfRDBFGSAnalyticProbeStep(xi, gulfRDBFGSAnalyticOneSide(xi, gulfRDBFGSAnalyticSquareRoot(gulfRDBFGSAnalyticUnitRoundoff)*gulfRDBFGSAnalyticLarger(1, gulfRDBFGSAnalyticAbs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			GulfRDGrad(&probe, &moved)
+			h[i] = gulfRDBFGSAnalyticAbs(moved[i]-g[i]) / gulfRDBFGSAnalyticAbs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// gulfRDBFGSAnalyticProbeStep returns x_i moved by h, and the step actually representable.
-func gulfRDBFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// gulfRDBFGSAnalyticCoordinateRange: without bounds any probe is allowed.
+func gulfRDBFGSAnalyticCoordinateRange(i int, diffs *gulfRDBFGSAnalyticDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// gulfRDBFGSAnalyticProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func gulfRDBFGSAnalyticProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := gulfRDBFGSAnalyticClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// gulfRDBFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func gulfRDBFGSAnalyticClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// gulfRDBFGSAnalyticOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func gulfRDBFGSAnalyticOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // gulfRDBFGSAnalyticSquareRoot returns √v.
@@ -600,6 +651,11 @@ func gulfRDBFGSAnalyticLarger(a, b float64) float64 {
 		return a
 	}
 	return b
+}
+
+// gulfRDBFGSAnalyticStationarity measures the gradient itself.
+func gulfRDBFGSAnalyticStationarity(g, e, x *[3]float64, fx float64, b *gulfRDBFGSAnalyticBox) (measure, floor float64) {
+	return gulfRDBFGSAnalyticGradientMeasure(g, e, x, fx)
 }
 
 // gulfRDBFGSAnalyticGradientMeasure is the scale-free measure
@@ -635,6 +691,14 @@ func gulfRDBFGSAnalyticStepWithin(s, x *[3]float64, tol float64) bool {
 	return true
 }
 
+// gulfRDBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
+func gulfRDBFGSAnalyticCurvaturePair(s, y, x *[3]float64, b *gulfRDBFGSAnalyticBox) {}
+
+// gulfRDBFGSAnalyticSearchDirection is the direction's own.
+func gulfRDBFGSAnalyticSearchDirection(dir *gulfRDBFGSAnalyticDirection, x, g, d *[3]float64, b *gulfRDBFGSAnalyticBox) {
+	dir.compute(g, d)
+}
+
 // gulfRDBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func gulfRDBFGSAnalyticTinyStep(x, d *[3]float64, tol float64) float64 {
@@ -662,7 +726,10 @@ func gulfRDBFGSAnalyticTinyStep(x, d *[3]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (gulfRDBFGSAnalyticStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -671,13 +738,17 @@ func gulfRDBFGSAnalyticTinyStep(x, d *[3]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func gulfRDBFGSAnalyticLineSearch(x *[3]float64, fx float64, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *gulfRDBFGSAnalyticDifferences) gulfRDBFGSAnalyticLineResult {
+func gulfRDBFGSAnalyticLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *gulfRDBFGSAnalyticDifferences) gulfRDBFGSAnalyticLineResult {
 	low := gulfRDBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high gulfRDBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                                  // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend gulfRDBFGSAnalyticRiseTrend // of the trials failing sufficient decrease
+	var trend gulfRDBFGSAnalyticRiseTrend                         // of the trials failing sufficient decrease
+	limit := gulfRDBFGSAnalyticStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < gulfRDBFGSAnalyticStepTrials; trial++ {
 		if bracketed && gulfRDBFGSAnalyticAbs(high.step-low.step) <= tiny {
@@ -687,12 +758,12 @@ func gulfRDBFGSAnalyticLineSearch(x *[3]float64, fx float64, d *[3]float64, slop
 			if low.step == 0 {
 				return gulfRDBFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: gulfRDBFGSAnalyticTinyOrExhausted(gulfRDBFGSAnalyticFinite(high.value))}
 			}
-			return gulfRDBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return gulfRDBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return gulfRDBFGSAnalyticLineResult{calls: calls, end: gulfRDBFGSAnalyticSearchOutOfBudget}
 		}
-		gulfRDBFGSAnalyticMoveTo(xt, x, t, d)
+		gulfRDBFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := gulfRDBFGSAnalyticLinePoint{step: t, value: GulfRD(xt)}
 		calls++
 		previous := low
@@ -703,8 +774,7 @@ func gulfRDBFGSAnalyticLineSearch(x *[3]float64, fx float64, d *[3]float64, slop
 			if calls+gulfRDBFGSAnalyticDerivativeCost > budget {
 				return gulfRDBFGSAnalyticLineResult{calls: calls, end: gulfRDBFGSAnalyticSearchOutOfBudget}
 			}
-			gulfRDBFGSAnalyticDerivative(xt, current.value, gt, diffs)
-			calls += gulfRDBFGSAnalyticDerivativeCost
+			calls += gulfRDBFGSAnalyticDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = gulfRDBFGSAnalyticDot(gt, d), true
 			switch {
 			case !gulfRDBFGSAnalyticFinite(current.slope):
@@ -715,18 +785,22 @@ func gulfRDBFGSAnalyticLineSearch(x *[3]float64, fx float64, d *[3]float64, slop
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return gulfRDBFGSAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: gulfRDBFGSAnalyticSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = gulfRDBFGSAnalyticZoomTrial(&low, &high)
-		} else {
-			t = gulfRDBFGSAnalyticExpandTrial(&previous, &current)
+		} else if t = gulfRDBFGSAnalyticExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return gulfRDBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return gulfRDBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return gulfRDBFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: gulfRDBFGSAnalyticSearchExhausted}
 }
@@ -813,6 +887,11 @@ func gulfRDBFGSAnalyticFaithfulStep(x, xt, d *[3]float64, t float64) bool {
 	return true
 }
 
+// gulfRDBFGSAnalyticStepCap: without bounds a step may be as long as the search wants.
+func gulfRDBFGSAnalyticStepCap(x, d *[3]float64, tiny float64, b *gulfRDBFGSAnalyticBox) float64 {
+	return math.Inf(1)
+}
+
 // gulfRDBFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -837,10 +916,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func gulfRDBFGSAnalyticAcceptLow(x, d *[3]float64, low *gulfRDBFGSAnalyticLinePoint, lowGradient *[3]float64, calls int, xt, gt *[3]float64) gulfRDBFGSAnalyticLineResult {
-	gulfRDBFGSAnalyticMoveTo(xt, x, low.step, d)
+func gulfRDBFGSAnalyticAcceptLow(x, d *[3]float64, low *gulfRDBFGSAnalyticLinePoint, lowGradient *[3]float64, calls int, xt, gt *[3]float64, diffs *gulfRDBFGSAnalyticDifferences) gulfRDBFGSAnalyticLineResult {
+	gulfRDBFGSAnalyticTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return gulfRDBFGSAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: gulfRDBFGSAnalyticSearchAccepted}
+}
+
+// gulfRDBFGSAnalyticTrialPoint is x + t·d.
+func gulfRDBFGSAnalyticTrialPoint(out, x *[3]float64, t float64, d *[3]float64, b *gulfRDBFGSAnalyticBox) {
+	gulfRDBFGSAnalyticMoveTo(out, x, t, d)
 }
 
 // gulfRDBFGSAnalyticMoveTo sets out = x + t·d.
@@ -895,21 +979,6 @@ func gulfRDBFGSAnalyticModelMinimizer(a, b *gulfRDBFGSAnalyticLinePoint) (t floa
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, gulfRDBFGSAnalyticFinite(t)
-}
-
-// gulfRDBFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func gulfRDBFGSAnalyticClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // gulfRDBFGSAnalyticExpandTrial picks a larger trial after current met sufficient decrease

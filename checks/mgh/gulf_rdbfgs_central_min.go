@@ -88,6 +88,9 @@ func GulfRDBFGSCentralDefaultLimits() GulfRDBFGSCentralLimits {
 	}
 }
 
+// gulfRDBFGSCentralBox is empty: mgh.toml sets no bounds on GulfRDBFGSCentral.
+type gulfRDBFGSCentralBox struct{}
+
 // GulfRDBFGSCentral minimizes GulfRD from x0, as mgh.toml specifies.
 //
 // Direction bfgs: BFGS quasi-Newton with a dense inverse-Hessian approximation (dim² numbers).
@@ -105,7 +108,7 @@ func GulfRDBFGSCentral(x0 [3]float64) GulfRDBFGSCentralResult {
 
 // GulfRDBFGSCentralWithLimits is GulfRDBFGSCentral with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func GulfRDBFGSCentralWithLimits(x0 [3]float64, limits GulfRDBFGSCentralLimits) GulfRDBFGSCentralResult {
-	out := gulfRDBFGSCentralMinimize(x0, limits)
+	out := gulfRDBFGSCentralMinimize(x0, limits, gulfRDBFGSCentralBox{})
 	return GulfRDBFGSCentralResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func gulfRDBFGSCentralMinimize(x0 [3]float64, lim GulfRDBFGSCentralLimits) gulfRDBFGSCentralOutcome {
-	out := gulfRDBFGSCentralOutcome{x: x0, status: GulfRDBFGSCentralOutOfEvaluations, gradient: math.NaN()}
+func gulfRDBFGSCentralMinimize(x0 [3]float64, lim GulfRDBFGSCentralLimits, bounds gulfRDBFGSCentralBox) gulfRDBFGSCentralOutcome {
+	x := x0
+	gulfRDBFGSCentralEnterBox(&x, &bounds)
+	out := gulfRDBFGSCentralOutcome{x: x, status: GulfRDBFGSCentralOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := GulfRD(&x)
 	out.f, out.evaluations = fx, 1
 	if !gulfRDBFGSCentralFinite(fx) || !gulfRDBFGSCentralFiniteVec(&x) {
 		out.status = GulfRDBFGSCentralNonFiniteStart
 		return out
 	}
-	var diffs gulfRDBFGSCentralDifferences
+	diffs := gulfRDBFGSCentralDifferences{bounds: bounds}
 	calls, ok := gulfRDBFGSCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+gulfRDBFGSCentralDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [3]float64
-	gulfRDBFGSCentralDerivative(&x, fx, &g, &diffs)
-	out.evaluations += gulfRDBFGSCentralDerivativeCost
+	out.evaluations += gulfRDBFGSCentralDerivative(&x, fx, &g, &diffs)
 
 	if !gulfRDBFGSCentralFiniteVec(&g) {
 		out.status = GulfRDBFGSCentralNonFiniteGradient
@@ -211,7 +214,7 @@ func gulfRDBFGSCentralMinimize(x0 [3]float64, lim GulfRDBFGSCentralLimits) gulfR
 		case !confirmed:
 			gulfRDBFGSCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := gulfRDBFGSCentralGradientMeasure(&g, &e, &x, fx)
+		measure, floor := gulfRDBFGSCentralStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, gulfRDBFGSCentralLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func gulfRDBFGSCentralMinimize(x0 [3]float64, lim GulfRDBFGSCentralLimits) gulfR
 			if rises >= 8 {
 				return best.ending(GulfRDBFGSCentralDiverged, out.iterations, out.evaluations)
 			}
+			gulfRDBFGSCentralCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(GulfRDBFGSCentralOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		gulfRDBFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := gulfRDBFGSCentralDot(&g, &d)
 		if !(now < 0) || !gulfRDBFGSCentralFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			gulfRDBFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = gulfRDBFGSCentralDot(&g, &d)
 		}
 		first := float64(gulfRDBFGSCentralStepInitial)
@@ -267,7 +271,7 @@ func gulfRDBFGSCentralMinimize(x0 [3]float64, lim GulfRDBFGSCentralLimits) gulfR
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := gulfRDBFGSCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := gulfRDBFGSCentralLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := gulfRDBFGSCentralLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case gulfRDBFGSCentralSearchOutOfBudget:
@@ -303,8 +307,7 @@ func gulfRDBFGSCentralMinimize(x0 [3]float64, lim GulfRDBFGSCentralLimits) gulfR
 				}
 				return best.ending(GulfRDBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			gulfRDBFGSCentralDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += gulfRDBFGSCentralDerivativeCost
+			out.evaluations += gulfRDBFGSCentralDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		gulfRDBFGSCentralDifference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o gulfRDBFGSCentralOutcome) ending(end GulfRDBFGSCentralStatus, iterations
 	return o
 }
 
+// gulfRDBFGSCentralEnterBox: without bounds every start is inside.
+func gulfRDBFGSCentralEnterBox(x *[3]float64, b *gulfRDBFGSCentralBox) {}
+
 // gulfRDBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func gulfRDBFGSCentralFiniteVec(x *[3]float64) bool {
 	return true
 }
 
-// gulfRDBFGSCentralDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// gulfRDBFGSCentralDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type gulfRDBFGSCentralDifferences struct {
 	ratio     [3]float64
 	curvature [3]float64
 	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see gulfRDBFGSCentralRoundingFloor)
+	bounds    gulfRDBFGSCentralBox
 }
 
 // gulfRDBFGSCentralCalibrate chooses each central-difference interval from the
@@ -397,19 +405,45 @@ func gulfRDBFGSCentralCalibrate(x *[3]float64, fx float64, diffs *gulfRDBFGSCent
 	var slope [3]float64
 	scale := gulfRDBFGSCentralAbs(fx)
 	quarter := gulfRDBFGSCentralSquareRoot(gulfRDBFGSCentralSquareRoot(gulfRDBFGSCentralUnitRoundoff)) // u^(1/4)
+	calls := 0
 	for i := range probe {
-		if 4*(i+1) > budget {
-			return 4 * i, false
+		if calls+4 > budget {
+			return calls, false
 		}
 		xi := probe[i]
 		bar := quarter * gulfRDBFGSCentralLarger(1, gulfRDBFGSCentralAbs(xi))
+		lower, upper := gulfRDBFGSCentralCoordinateRange(i, diffs)
+		if xi+2*bar > upper || xi-2*bar < lower {
+			// At a bound: three probes on the side with room, at h, 2h
+			// and 3h, for f‴ ≈ (f(3h) − 3f(2h) + 3f(h) − f(0))/h³ (the
+			// third forward difference).
+			h := gulfRDBFGSCentralOneSide(xi, bar, 3, lower, upper)
+			if h == 0 {
+				continue // fixed by equal bounds
+			}
+			var f [3]float64
+			for k := range f {
+				probe[i], _ = gulfRDBFGSCentralProbeStep(xi, float64(k+1)*h, lower, upper)
+				f[k] = GulfRD(&probe)
+				scale = gulfRDBFGSCentralLarger(scale, gulfRDBFGSCentralMagnitude(f[k]))
+			}
+			probe[i] = xi
+			calls += 3
+			if gulfRDBFGSCentralFinite(f[0]) && gulfRDBFGSCentralFinite(f[1]) && gulfRDBFGSCentralFinite(f[2]) {
+				diffs.curvature[i] = gulfRDBFGSCentralAbs(f[2]-3*f[1]+3*f[0]-fx) / gulfRDBFGSCentralAbs(h*h*h)
+				diffs.second[i] = gulfRDBFGSCentralAbs(fx-2*f[0]+f[1]) / (h * h)
+				slope[i] = (-3*fx + 4*f[0] - f[1]) / (2 * h)
+			}
+			continue
+		}
 		var f [4]float64
 		for k, m := range [4]float64{2, 1, -1, -2} {
-			probe[i], _ = gulfRDBFGSCentralProbeStep(xi, m*bar)
+			probe[i], _ = gulfRDBFGSCentralProbeStep(xi, m*bar, lower, upper)
 			f[k] = GulfRD(&probe)
 			scale = gulfRDBFGSCentralLarger(scale, gulfRDBFGSCentralMagnitude(f[k]))
 		}
 		probe[i] = xi
+		calls += 4
 		if gulfRDBFGSCentralFinite(f[0]) && gulfRDBFGSCentralFinite(f[1]) && gulfRDBFGSCentralFinite(f[2]) && gulfRDBFGSCentralFinite(f[3]) {
 			diffs.curvature[i] = gulfRDBFGSCentralAbs(f[0]-2*f[1]+2*f[2]-f[3]) / (2 * bar * bar * bar)
 			diffs.second[i] = gulfRDBFGSCentralAbs(f[1]-2*fx+f[2]) / (bar * bar)
@@ -428,7 +462,7 @@ func gulfRDBFGSCentralCalibrate(x *[3]float64, fx float64, diffs *gulfRDBFGSCent
 		diffs.ratio[i] = gulfRDBFGSCentralClampBetween(h, 64*gulfRDBFGSCentralUnitRoundoff*s, bar) / s
 		diffs.curvature[i] = third
 	}
-	return 4 * len(probe), true
+	return calls, true
 }
 
 // gulfRDBFGSCentralAbs returns |v|.
@@ -454,10 +488,48 @@ func gulfRDBFGSCentralLarger(a, b float64) float64 {
 	return b
 }
 
-// gulfRDBFGSCentralProbeStep returns x_i moved by h, and the step actually representable.
-func gulfRDBFGSCentralProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// gulfRDBFGSCentralCoordinateRange: without bounds any probe is allowed.
+func gulfRDBFGSCentralCoordinateRange(i int, diffs *gulfRDBFGSCentralDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// gulfRDBFGSCentralOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func gulfRDBFGSCentralOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
+}
+
+// gulfRDBFGSCentralProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func gulfRDBFGSCentralProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := gulfRDBFGSCentralClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// gulfRDBFGSCentralClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func gulfRDBFGSCentralClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
 }
 
 // gulfRDBFGSCentralMagnitude is |v| for a finite v and 0 otherwise: a probe that fell
@@ -493,42 +565,85 @@ func gulfRDBFGSCentralCubeRoot(v float64) float64 {
 	return math.Cbrt(v)
 }
 
-// gulfRDBFGSCentralClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func gulfRDBFGSCentralClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
-}
-
 // gulfRDBFGSCentralDerivative approximates the gradient by central differences,
 //
 //	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),
 //
 // with the intervals gulfRDBFGSCentralCalibrate chose, h_i = ratio_i·max(1, |x_i|)
-// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls; fx is
-// not needed.
-func gulfRDBFGSCentralDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *gulfRDBFGSCentralDifferences) {
+// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls. Where
+// a bound leaves no room on one side, the three-point endpoint formula on
+// the other side takes its place at the same cost (see parabola); a
+// variable fixed by equal bounds costs nothing and gets 0.
+func gulfRDBFGSCentralDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *gulfRDBFGSCentralDifferences) int {
 	probe := *x
+	calls := 0
 	for i := range probe {
 		xi := probe[i]
-		h := diffs.ratio[i] * gulfRDBFGSCentralLarger(1, gulfRDBFGSCentralAbs(xi))
-		up, _ := gulfRDBFGSCentralProbeStep(xi, h)
-		down, _ := gulfRDBFGSCentralProbeStep(xi, -h)
-		probe[i] = up
-		fUp := GulfRD(&probe)
-		probe[i] = down
-		fDown := GulfRD(&probe)
-		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
-		probe[i] = xi
+		h, oneSided := gulfRDBFGSCentralCentralInterval(x, i, diffs)
+		lower, upper := gulfRDBFGSCentralCoordinateRange(i, diffs)
+		switch {
+		case h == 0:
+			g[i] = 0 // fixed by equal bounds
+			continue
+		case oneSided:
+			g[i], _, _ = gulfRDBFGSCentralSidedProbes(&probe, i, fx, h, lower, upper) // the three-point endpoint formula
+		default:
+			up, _ := gulfRDBFGSCentralProbeStep(xi, h, lower, upper)
+			down, _ := gulfRDBFGSCentralProbeStep(xi, -h, lower, upper)
+			probe[i] = up
+			fUp := GulfRD(&probe)
+			probe[i] = down
+			fDown := GulfRD(&probe)
+			g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+			probe[i] = xi
+		}
+		calls += 2
 	}
+	return calls
+}
+
+// gulfRDBFGSCentralCentralInterval is the interval of coordinate i at x, ratio_i·max(1,
+// |x_i|), and whether the box leaves room for probes on both sides; when
+// it does not, the interval is signed towards the side with room for
+// probes at h and 2h, and shortened where the box is narrower than that
+// (see gulfRDBFGSCentralOneSide).
+func gulfRDBFGSCentralCentralInterval(x *[3]float64, i int, diffs *gulfRDBFGSCentralDifferences) (h float64, oneSided bool) {
+	lower, upper := gulfRDBFGSCentralCoordinateRange(i, diffs)
+	h = diffs.ratio[i] * gulfRDBFGSCentralLarger(1, gulfRDBFGSCentralAbs(x[i]))
+	if x[i]+h <= upper && x[i]-h >= lower {
+		return h, false
+	}
+	return gulfRDBFGSCentralOneSide(x[i], h, 2, lower, upper), true
+}
+
+// gulfRDBFGSCentralSidedProbes evaluates f at x moved along coordinate i by h and by 2h,
+// kept within [lower, upper], and returns the slope and second derivative
+// of the parabola through them and (x, fx) (see parabola), and the larger
+// magnitude of the two values.
+func gulfRDBFGSCentralSidedProbes(probe *[3]float64, i int, fx, h, lower, upper float64) (slope, second, size float64) {
+	xi := probe[i]
+	near, a := gulfRDBFGSCentralProbeStep(xi, h, lower, upper)
+	far, b := gulfRDBFGSCentralProbeStep(xi, 2*h, lower, upper)
+	probe[i] = near
+	fNear := GulfRD(probe)
+	probe[i] = far
+	fFar := GulfRD(probe)
+	probe[i] = xi
+	slope, second = gulfRDBFGSCentralParabola(fx, a, fNear, b, fFar)
+	return slope, second, gulfRDBFGSCentralLarger(gulfRDBFGSCentralMagnitude(fNear), gulfRDBFGSCentralMagnitude(fFar))
+}
+
+// gulfRDBFGSCentralParabola returns the first and second derivatives at 0 of the parabola
+// through (0, f0), (a, fa) and (b, fb), for probes on one side of a bound.
+// With b = 2a they are the three-point endpoint formulas
+// f′ ≈ (−3f0 + 4fa − fb)/(2a), error a²|f‴|/3, and
+// f″ ≈ (f0 − 2fa + fb)/a² (Burden & Faires, Numerical Analysis, §4.1
+// and §4.1's second-derivative formulas, from memory); written for unequal
+// a and b, so that the representable steps can be used.
+func gulfRDBFGSCentralParabola(f0, a, fa, b, fb float64) (slope, second float64) {
+	slope = -(a+b)/(a*b)*f0 + b/(a*(b-a))*fa - a/(b*(b-a))*fb
+	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
+	return slope, second
 }
 
 // gulfRDBFGSCentralDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
@@ -668,13 +783,13 @@ func gulfRDBFGSCentralConfirmGradient(x *[3]float64, fx float64, g, e *[3]float6
 		wide.ratio[i] *= 2
 	}
 	var doubled [3]float64
-	gulfRDBFGSCentralDerivative(x, fx, g, diffs)
-	gulfRDBFGSCentralDerivative(x, fx, &doubled, &wide)
+	calls += gulfRDBFGSCentralDerivative(x, fx, g, diffs)
+	calls += gulfRDBFGSCentralDerivative(x, fx, &doubled, &wide)
 	gulfRDBFGSCentralGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * gulfRDBFGSCentralAbs(g[i]-doubled[i])
 	}
-	return calls + 2*gulfRDBFGSCentralDerivativeCost, true
+	return calls, true
 }
 
 // gulfRDBFGSCentralGradientError bounds each central difference's error by twice its
@@ -684,8 +799,16 @@ func gulfRDBFGSCentralConfirmGradient(x *[3]float64, fx float64, g, e *[3]float6
 func gulfRDBFGSCentralGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *gulfRDBFGSCentralDifferences) {
 	noise := gulfRDBFGSCentralNoiseLevel(x, fx, g)
 	for i := range e {
-		h := diffs.ratio[i] * gulfRDBFGSCentralLarger(1, gulfRDBFGSCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		h, oneSided := gulfRDBFGSCentralCentralInterval(x, i, diffs)
+		h = gulfRDBFGSCentralAbs(h)
+		switch {
+		case h == 0:
+			e[i] = 0 // fixed by equal bounds
+		case oneSided:
+			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+		default:
+			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		}
 	}
 }
 
@@ -707,6 +830,11 @@ func gulfRDBFGSCentralRoundingFloor(x, g, e *[3]float64, diffs *gulfRDBFGSCentra
 // calibration, which gulfRDBFGSCentralConfirmGradient has just made at x.
 func gulfRDBFGSCentralDiagonalCurvature(x, g *[3]float64, diffs *gulfRDBFGSCentralDifferences, h *[3]float64) {
 	*h = diffs.second
+}
+
+// gulfRDBFGSCentralStationarity measures the gradient itself.
+func gulfRDBFGSCentralStationarity(g, e, x *[3]float64, fx float64, b *gulfRDBFGSCentralBox) (measure, floor float64) {
+	return gulfRDBFGSCentralGradientMeasure(g, e, x, fx)
 }
 
 // gulfRDBFGSCentralGradientMeasure is the scale-free measure
@@ -742,6 +870,14 @@ func gulfRDBFGSCentralStepWithin(s, x *[3]float64, tol float64) bool {
 	return true
 }
 
+// gulfRDBFGSCentralCurvaturePair: without bounds the pair is used as it is.
+func gulfRDBFGSCentralCurvaturePair(s, y, x *[3]float64, b *gulfRDBFGSCentralBox) {}
+
+// gulfRDBFGSCentralSearchDirection is the direction's own.
+func gulfRDBFGSCentralSearchDirection(dir *gulfRDBFGSCentralDirection, x, g, d *[3]float64, b *gulfRDBFGSCentralBox) {
+	dir.compute(g, d)
+}
+
 // gulfRDBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func gulfRDBFGSCentralTinyStep(x, d *[3]float64, tol float64) float64 {
@@ -769,7 +905,10 @@ func gulfRDBFGSCentralTinyStep(x, d *[3]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (gulfRDBFGSCentralStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -778,13 +917,17 @@ func gulfRDBFGSCentralTinyStep(x, d *[3]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func gulfRDBFGSCentralLineSearch(x *[3]float64, fx float64, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *gulfRDBFGSCentralDifferences) gulfRDBFGSCentralLineResult {
+func gulfRDBFGSCentralLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *gulfRDBFGSCentralDifferences) gulfRDBFGSCentralLineResult {
 	low := gulfRDBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high gulfRDBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                                 // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend gulfRDBFGSCentralRiseTrend // of the trials failing sufficient decrease
+	var trend gulfRDBFGSCentralRiseTrend                         // of the trials failing sufficient decrease
+	limit := gulfRDBFGSCentralStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < gulfRDBFGSCentralStepTrials; trial++ {
 		if bracketed && gulfRDBFGSCentralAbs(high.step-low.step) <= tiny {
@@ -794,12 +937,12 @@ func gulfRDBFGSCentralLineSearch(x *[3]float64, fx float64, d *[3]float64, slope
 			if low.step == 0 {
 				return gulfRDBFGSCentralLineResult{calls: calls, rising: trend.contradicts(), end: gulfRDBFGSCentralTinyOrExhausted(gulfRDBFGSCentralFinite(high.value))}
 			}
-			return gulfRDBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return gulfRDBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return gulfRDBFGSCentralLineResult{calls: calls, end: gulfRDBFGSCentralSearchOutOfBudget}
 		}
-		gulfRDBFGSCentralMoveTo(xt, x, t, d)
+		gulfRDBFGSCentralTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := gulfRDBFGSCentralLinePoint{step: t, value: GulfRD(xt)}
 		calls++
 		previous := low
@@ -810,8 +953,7 @@ func gulfRDBFGSCentralLineSearch(x *[3]float64, fx float64, d *[3]float64, slope
 			if calls+gulfRDBFGSCentralDerivativeCost > budget {
 				return gulfRDBFGSCentralLineResult{calls: calls, end: gulfRDBFGSCentralSearchOutOfBudget}
 			}
-			gulfRDBFGSCentralDerivative(xt, current.value, gt, diffs)
-			calls += gulfRDBFGSCentralDerivativeCost
+			calls += gulfRDBFGSCentralDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = gulfRDBFGSCentralDot(gt, d), true
 			switch {
 			case !gulfRDBFGSCentralFinite(current.slope):
@@ -822,18 +964,22 @@ func gulfRDBFGSCentralLineSearch(x *[3]float64, fx float64, d *[3]float64, slope
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return gulfRDBFGSCentralLineResult{step: t, value: current.value, calls: calls, gradient: true, end: gulfRDBFGSCentralSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = gulfRDBFGSCentralZoomTrial(&low, &high)
-		} else {
-			t = gulfRDBFGSCentralExpandTrial(&previous, &current)
+		} else if t = gulfRDBFGSCentralExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return gulfRDBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return gulfRDBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return gulfRDBFGSCentralLineResult{calls: calls, rising: trend.contradicts(), end: gulfRDBFGSCentralSearchExhausted}
 }
@@ -920,6 +1066,11 @@ func gulfRDBFGSCentralFaithfulStep(x, xt, d *[3]float64, t float64) bool {
 	return true
 }
 
+// gulfRDBFGSCentralStepCap: without bounds a step may be as long as the search wants.
+func gulfRDBFGSCentralStepCap(x, d *[3]float64, tiny float64, b *gulfRDBFGSCentralBox) float64 {
+	return math.Inf(1)
+}
+
 // gulfRDBFGSCentralTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -944,10 +1095,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func gulfRDBFGSCentralAcceptLow(x, d *[3]float64, low *gulfRDBFGSCentralLinePoint, lowGradient *[3]float64, calls int, xt, gt *[3]float64) gulfRDBFGSCentralLineResult {
-	gulfRDBFGSCentralMoveTo(xt, x, low.step, d)
+func gulfRDBFGSCentralAcceptLow(x, d *[3]float64, low *gulfRDBFGSCentralLinePoint, lowGradient *[3]float64, calls int, xt, gt *[3]float64, diffs *gulfRDBFGSCentralDifferences) gulfRDBFGSCentralLineResult {
+	gulfRDBFGSCentralTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return gulfRDBFGSCentralLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: gulfRDBFGSCentralSearchAccepted}
+}
+
+// gulfRDBFGSCentralTrialPoint is x + t·d.
+func gulfRDBFGSCentralTrialPoint(out, x *[3]float64, t float64, d *[3]float64, b *gulfRDBFGSCentralBox) {
+	gulfRDBFGSCentralMoveTo(out, x, t, d)
 }
 
 // gulfRDBFGSCentralMoveTo sets out = x + t·d.

@@ -88,6 +88,9 @@ func GulfRDCGAnalyticDefaultLimits() GulfRDCGAnalyticLimits {
 	}
 }
 
+// gulfRDCGAnalyticBox is empty: mgh.toml sets no bounds on GulfRDCGAnalytic.
+type gulfRDCGAnalyticBox struct{}
+
 // GulfRDCGAnalytic minimizes GulfRD from x0, as mgh.toml specifies.
 //
 // Direction cg: nonlinear conjugate gradients, Polak–Ribière clipped at zero (PR+), restarted every dim steps.
@@ -105,7 +108,7 @@ func GulfRDCGAnalytic(x0 [3]float64) GulfRDCGAnalyticResult {
 
 // GulfRDCGAnalyticWithLimits is GulfRDCGAnalytic with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func GulfRDCGAnalyticWithLimits(x0 [3]float64, limits GulfRDCGAnalyticLimits) GulfRDCGAnalyticResult {
-	out := gulfRDCGAnalyticMinimize(x0, limits)
+	out := gulfRDCGAnalyticMinimize(x0, limits, gulfRDCGAnalyticBox{})
 	return GulfRDCGAnalyticResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func gulfRDCGAnalyticMinimize(x0 [3]float64, lim GulfRDCGAnalyticLimits) gulfRDCGAnalyticOutcome {
-	out := gulfRDCGAnalyticOutcome{x: x0, status: GulfRDCGAnalyticOutOfEvaluations, gradient: math.NaN()}
+func gulfRDCGAnalyticMinimize(x0 [3]float64, lim GulfRDCGAnalyticLimits, bounds gulfRDCGAnalyticBox) gulfRDCGAnalyticOutcome {
+	x := x0
+	gulfRDCGAnalyticEnterBox(&x, &bounds)
+	out := gulfRDCGAnalyticOutcome{x: x, status: GulfRDCGAnalyticOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := GulfRD(&x)
 	out.f, out.evaluations = fx, 1
 	if !gulfRDCGAnalyticFinite(fx) || !gulfRDCGAnalyticFiniteVec(&x) {
 		out.status = GulfRDCGAnalyticNonFiniteStart
 		return out
 	}
-	var diffs gulfRDCGAnalyticDifferences
+	diffs := gulfRDCGAnalyticDifferences{bounds: bounds}
 	calls, ok := gulfRDCGAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+gulfRDCGAnalyticDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [3]float64
-	gulfRDCGAnalyticDerivative(&x, fx, &g, &diffs)
-	out.evaluations += gulfRDCGAnalyticDerivativeCost
+	out.evaluations += gulfRDCGAnalyticDerivative(&x, fx, &g, &diffs)
 
 	if !gulfRDCGAnalyticFiniteVec(&g) {
 		out.status = GulfRDCGAnalyticNonFiniteGradient
@@ -211,7 +214,7 @@ func gulfRDCGAnalyticMinimize(x0 [3]float64, lim GulfRDCGAnalyticLimits) gulfRDC
 		case !confirmed:
 			gulfRDCGAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := gulfRDCGAnalyticGradientMeasure(&g, &e, &x, fx)
+		measure, floor := gulfRDCGAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, gulfRDCGAnalyticLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func gulfRDCGAnalyticMinimize(x0 [3]float64, lim GulfRDCGAnalyticLimits) gulfRDC
 			if rises >= 8 {
 				return best.ending(GulfRDCGAnalyticDiverged, out.iterations, out.evaluations)
 			}
+			gulfRDCGAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(GulfRDCGAnalyticOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		gulfRDCGAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := gulfRDCGAnalyticDot(&g, &d)
 		if !(now < 0) || !gulfRDCGAnalyticFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			gulfRDCGAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = gulfRDCGAnalyticDot(&g, &d)
 		}
 		first := float64(gulfRDCGAnalyticStepInitial)
@@ -267,7 +271,7 @@ func gulfRDCGAnalyticMinimize(x0 [3]float64, lim GulfRDCGAnalyticLimits) gulfRDC
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := gulfRDCGAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := gulfRDCGAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := gulfRDCGAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case gulfRDCGAnalyticSearchOutOfBudget:
@@ -303,8 +307,7 @@ func gulfRDCGAnalyticMinimize(x0 [3]float64, lim GulfRDCGAnalyticLimits) gulfRDC
 				}
 				return best.ending(GulfRDCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			gulfRDCGAnalyticDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += gulfRDCGAnalyticDerivativeCost
+			out.evaluations += gulfRDCGAnalyticDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		gulfRDCGAnalyticDifference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o gulfRDCGAnalyticOutcome) ending(end GulfRDCGAnalyticStatus, iterations, 
 	return o
 }
 
+// gulfRDCGAnalyticEnterBox: without bounds every start is inside.
+func gulfRDCGAnalyticEnterBox(x *[3]float64, b *gulfRDCGAnalyticBox) {}
+
 // gulfRDCGAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func gulfRDCGAnalyticFiniteVec(x *[3]float64) bool {
 	return true
 }
 
-// gulfRDCGAnalyticDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// gulfRDCGAnalyticDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type gulfRDCGAnalyticDifferences struct {
 	ratio     [3]float64
 	curvature [3]float64
 	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see gulfRDCGAnalyticRoundingFloor)
+	bounds    gulfRDCGAnalyticBox
 }
 
 // gulfRDCGAnalyticCalibrate: an analytic gradient needs no intervals.
@@ -384,8 +392,9 @@ func gulfRDCGAnalyticCalibrate(x *[3]float64, fx float64, diffs *gulfRDCGAnalyti
 }
 
 // gulfRDCGAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func gulfRDCGAnalyticDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *gulfRDCGAnalyticDifferences) {
+func gulfRDCGAnalyticDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *gulfRDCGAnalyticDifferences) int {
 	GulfRDGrad(x, g)
+	return 0
 }
 
 // gulfRDCGAnalyticDirection is nonlinear conjugate gradients with the Polak–Ribière
@@ -517,13 +526,13 @@ func gulfRDCGAnalyticConfirmGradient(x *[3]float64, fx float64, g, e *[3]float64
 		wide.ratio[i] *= 2
 	}
 	var doubled [3]float64
-	gulfRDCGAnalyticDerivative(x, fx, g, diffs)
-	gulfRDCGAnalyticDerivative(x, fx, &doubled, &wide)
+	calls += gulfRDCGAnalyticDerivative(x, fx, g, diffs)
+	calls += gulfRDCGAnalyticDerivative(x, fx, &doubled, &wide)
 	gulfRDCGAnalyticGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * gulfRDCGAnalyticAbs(g[i]-doubled[i])
 	}
-	return calls + 2*gulfRDCGAnalyticDerivativeCost, true
+	return calls, true
 }
 
 // gulfRDCGAnalyticGradientError: the analytic gradient is taken as exact; its error is
@@ -565,23 +574,70 @@ func gulfRDCGAnalyticDiagonalCurvature(x, g *[3]float64, diffs *gulfRDCGAnalytic
 	var moved [3]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := gulfRDCGAnalyticProbeStep(xi, gulfRDCGAnalyticSquareRoot(gulfRDCGAnalyticUnitRoundoff)*gulfRDCGAnalyticLarger(1, gulfRDCGAnalyticAbs(xi)))
-		probe[i] = up
-		GulfRDGrad(&probe, &moved)
-		h[i] = gulfRDCGAnalyticAbs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := gulfRDCGAnalyticCoordinateRange(i, diffs)
+		up, delta := gulfRDCGAnalyticProbeStep(xi, gulfRDCGAnalyticOneSide(xi, gulfRDCGAnalyticSquareRoot(gulfRDCGAnalyticUnitRoundoff)*gulfRDCGAnalyticLarger(1, gulfRDCGAnalyticAbs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			GulfRDGrad(&probe, &moved)
+			h[i] = gulfRDCGAnalyticAbs(moved[i]-g[i]) / gulfRDCGAnalyticAbs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// gulfRDCGAnalyticProbeStep returns x_i moved by h, and the step actually representable.
-func gulfRDCGAnalyticProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// gulfRDCGAnalyticCoordinateRange: without bounds any probe is allowed.
+func gulfRDCGAnalyticCoordinateRange(i int, diffs *gulfRDCGAnalyticDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// gulfRDCGAnalyticProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func gulfRDCGAnalyticProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := gulfRDCGAnalyticClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// gulfRDCGAnalyticClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func gulfRDCGAnalyticClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// gulfRDCGAnalyticOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func gulfRDCGAnalyticOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // gulfRDCGAnalyticSquareRoot returns √v.
 func gulfRDCGAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// gulfRDCGAnalyticStationarity measures the gradient itself.
+func gulfRDCGAnalyticStationarity(g, e, x *[3]float64, fx float64, b *gulfRDCGAnalyticBox) (measure, floor float64) {
+	return gulfRDCGAnalyticGradientMeasure(g, e, x, fx)
 }
 
 // gulfRDCGAnalyticGradientMeasure is the scale-free measure
@@ -617,6 +673,14 @@ func gulfRDCGAnalyticStepWithin(s, x *[3]float64, tol float64) bool {
 	return true
 }
 
+// gulfRDCGAnalyticCurvaturePair: without bounds the pair is used as it is.
+func gulfRDCGAnalyticCurvaturePair(s, y, x *[3]float64, b *gulfRDCGAnalyticBox) {}
+
+// gulfRDCGAnalyticSearchDirection is the direction's own.
+func gulfRDCGAnalyticSearchDirection(dir *gulfRDCGAnalyticDirection, x, g, d *[3]float64, b *gulfRDCGAnalyticBox) {
+	dir.compute(g, d)
+}
+
 // gulfRDCGAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func gulfRDCGAnalyticTinyStep(x, d *[3]float64, tol float64) float64 {
@@ -644,7 +708,10 @@ func gulfRDCGAnalyticTinyStep(x, d *[3]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (gulfRDCGAnalyticStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -653,13 +720,17 @@ func gulfRDCGAnalyticTinyStep(x, d *[3]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func gulfRDCGAnalyticLineSearch(x *[3]float64, fx float64, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *gulfRDCGAnalyticDifferences) gulfRDCGAnalyticLineResult {
+func gulfRDCGAnalyticLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *gulfRDCGAnalyticDifferences) gulfRDCGAnalyticLineResult {
 	low := gulfRDCGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high gulfRDCGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                                // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend gulfRDCGAnalyticRiseTrend // of the trials failing sufficient decrease
+	var trend gulfRDCGAnalyticRiseTrend                         // of the trials failing sufficient decrease
+	limit := gulfRDCGAnalyticStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < gulfRDCGAnalyticStepTrials; trial++ {
 		if bracketed && gulfRDCGAnalyticAbs(high.step-low.step) <= tiny {
@@ -669,12 +740,12 @@ func gulfRDCGAnalyticLineSearch(x *[3]float64, fx float64, d *[3]float64, slope,
 			if low.step == 0 {
 				return gulfRDCGAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: gulfRDCGAnalyticTinyOrExhausted(gulfRDCGAnalyticFinite(high.value))}
 			}
-			return gulfRDCGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return gulfRDCGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return gulfRDCGAnalyticLineResult{calls: calls, end: gulfRDCGAnalyticSearchOutOfBudget}
 		}
-		gulfRDCGAnalyticMoveTo(xt, x, t, d)
+		gulfRDCGAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := gulfRDCGAnalyticLinePoint{step: t, value: GulfRD(xt)}
 		calls++
 		previous := low
@@ -685,8 +756,7 @@ func gulfRDCGAnalyticLineSearch(x *[3]float64, fx float64, d *[3]float64, slope,
 			if calls+gulfRDCGAnalyticDerivativeCost > budget {
 				return gulfRDCGAnalyticLineResult{calls: calls, end: gulfRDCGAnalyticSearchOutOfBudget}
 			}
-			gulfRDCGAnalyticDerivative(xt, current.value, gt, diffs)
-			calls += gulfRDCGAnalyticDerivativeCost
+			calls += gulfRDCGAnalyticDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = gulfRDCGAnalyticDot(gt, d), true
 			switch {
 			case !gulfRDCGAnalyticFinite(current.slope):
@@ -697,18 +767,22 @@ func gulfRDCGAnalyticLineSearch(x *[3]float64, fx float64, d *[3]float64, slope,
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return gulfRDCGAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: gulfRDCGAnalyticSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = gulfRDCGAnalyticZoomTrial(&low, &high)
-		} else {
-			t = gulfRDCGAnalyticExpandTrial(&previous, &current)
+		} else if t = gulfRDCGAnalyticExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return gulfRDCGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return gulfRDCGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return gulfRDCGAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: gulfRDCGAnalyticSearchExhausted}
 }
@@ -795,6 +869,11 @@ func gulfRDCGAnalyticFaithfulStep(x, xt, d *[3]float64, t float64) bool {
 	return true
 }
 
+// gulfRDCGAnalyticStepCap: without bounds a step may be as long as the search wants.
+func gulfRDCGAnalyticStepCap(x, d *[3]float64, tiny float64, b *gulfRDCGAnalyticBox) float64 {
+	return math.Inf(1)
+}
+
 // gulfRDCGAnalyticTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -819,10 +898,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func gulfRDCGAnalyticAcceptLow(x, d *[3]float64, low *gulfRDCGAnalyticLinePoint, lowGradient *[3]float64, calls int, xt, gt *[3]float64) gulfRDCGAnalyticLineResult {
-	gulfRDCGAnalyticMoveTo(xt, x, low.step, d)
+func gulfRDCGAnalyticAcceptLow(x, d *[3]float64, low *gulfRDCGAnalyticLinePoint, lowGradient *[3]float64, calls int, xt, gt *[3]float64, diffs *gulfRDCGAnalyticDifferences) gulfRDCGAnalyticLineResult {
+	gulfRDCGAnalyticTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return gulfRDCGAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: gulfRDCGAnalyticSearchAccepted}
+}
+
+// gulfRDCGAnalyticTrialPoint is x + t·d.
+func gulfRDCGAnalyticTrialPoint(out, x *[3]float64, t float64, d *[3]float64, b *gulfRDCGAnalyticBox) {
+	gulfRDCGAnalyticMoveTo(out, x, t, d)
 }
 
 // gulfRDCGAnalyticMoveTo sets out = x + t·d.
@@ -877,21 +961,6 @@ func gulfRDCGAnalyticModelMinimizer(a, b *gulfRDCGAnalyticLinePoint) (t float64,
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, gulfRDCGAnalyticFinite(t)
-}
-
-// gulfRDCGAnalyticClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func gulfRDCGAnalyticClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // gulfRDCGAnalyticExpandTrial picks a larger trial after current met sufficient decrease

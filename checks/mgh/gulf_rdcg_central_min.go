@@ -88,6 +88,9 @@ func GulfRDCGCentralDefaultLimits() GulfRDCGCentralLimits {
 	}
 }
 
+// gulfRDCGCentralBox is empty: mgh.toml sets no bounds on GulfRDCGCentral.
+type gulfRDCGCentralBox struct{}
+
 // GulfRDCGCentral minimizes GulfRD from x0, as mgh.toml specifies.
 //
 // Direction cg: nonlinear conjugate gradients, Polak–Ribière clipped at zero (PR+), restarted every dim steps.
@@ -105,7 +108,7 @@ func GulfRDCGCentral(x0 [3]float64) GulfRDCGCentralResult {
 
 // GulfRDCGCentralWithLimits is GulfRDCGCentral with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func GulfRDCGCentralWithLimits(x0 [3]float64, limits GulfRDCGCentralLimits) GulfRDCGCentralResult {
-	out := gulfRDCGCentralMinimize(x0, limits)
+	out := gulfRDCGCentralMinimize(x0, limits, gulfRDCGCentralBox{})
 	return GulfRDCGCentralResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func gulfRDCGCentralMinimize(x0 [3]float64, lim GulfRDCGCentralLimits) gulfRDCGCentralOutcome {
-	out := gulfRDCGCentralOutcome{x: x0, status: GulfRDCGCentralOutOfEvaluations, gradient: math.NaN()}
+func gulfRDCGCentralMinimize(x0 [3]float64, lim GulfRDCGCentralLimits, bounds gulfRDCGCentralBox) gulfRDCGCentralOutcome {
+	x := x0
+	gulfRDCGCentralEnterBox(&x, &bounds)
+	out := gulfRDCGCentralOutcome{x: x, status: GulfRDCGCentralOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := GulfRD(&x)
 	out.f, out.evaluations = fx, 1
 	if !gulfRDCGCentralFinite(fx) || !gulfRDCGCentralFiniteVec(&x) {
 		out.status = GulfRDCGCentralNonFiniteStart
 		return out
 	}
-	var diffs gulfRDCGCentralDifferences
+	diffs := gulfRDCGCentralDifferences{bounds: bounds}
 	calls, ok := gulfRDCGCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+gulfRDCGCentralDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [3]float64
-	gulfRDCGCentralDerivative(&x, fx, &g, &diffs)
-	out.evaluations += gulfRDCGCentralDerivativeCost
+	out.evaluations += gulfRDCGCentralDerivative(&x, fx, &g, &diffs)
 
 	if !gulfRDCGCentralFiniteVec(&g) {
 		out.status = GulfRDCGCentralNonFiniteGradient
@@ -211,7 +214,7 @@ func gulfRDCGCentralMinimize(x0 [3]float64, lim GulfRDCGCentralLimits) gulfRDCGC
 		case !confirmed:
 			gulfRDCGCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := gulfRDCGCentralGradientMeasure(&g, &e, &x, fx)
+		measure, floor := gulfRDCGCentralStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, gulfRDCGCentralLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func gulfRDCGCentralMinimize(x0 [3]float64, lim GulfRDCGCentralLimits) gulfRDCGC
 			if rises >= 8 {
 				return best.ending(GulfRDCGCentralDiverged, out.iterations, out.evaluations)
 			}
+			gulfRDCGCentralCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(GulfRDCGCentralOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		gulfRDCGCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := gulfRDCGCentralDot(&g, &d)
 		if !(now < 0) || !gulfRDCGCentralFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			gulfRDCGCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = gulfRDCGCentralDot(&g, &d)
 		}
 		first := float64(gulfRDCGCentralStepInitial)
@@ -267,7 +271,7 @@ func gulfRDCGCentralMinimize(x0 [3]float64, lim GulfRDCGCentralLimits) gulfRDCGC
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := gulfRDCGCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := gulfRDCGCentralLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := gulfRDCGCentralLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case gulfRDCGCentralSearchOutOfBudget:
@@ -303,8 +307,7 @@ func gulfRDCGCentralMinimize(x0 [3]float64, lim GulfRDCGCentralLimits) gulfRDCGC
 				}
 				return best.ending(GulfRDCGCentralOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			gulfRDCGCentralDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += gulfRDCGCentralDerivativeCost
+			out.evaluations += gulfRDCGCentralDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		gulfRDCGCentralDifference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o gulfRDCGCentralOutcome) ending(end GulfRDCGCentralStatus, iterations, ev
 	return o
 }
 
+// gulfRDCGCentralEnterBox: without bounds every start is inside.
+func gulfRDCGCentralEnterBox(x *[3]float64, b *gulfRDCGCentralBox) {}
+
 // gulfRDCGCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func gulfRDCGCentralFiniteVec(x *[3]float64) bool {
 	return true
 }
 
-// gulfRDCGCentralDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// gulfRDCGCentralDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type gulfRDCGCentralDifferences struct {
 	ratio     [3]float64
 	curvature [3]float64
 	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see gulfRDCGCentralRoundingFloor)
+	bounds    gulfRDCGCentralBox
 }
 
 // gulfRDCGCentralCalibrate chooses each central-difference interval from the
@@ -397,19 +405,45 @@ func gulfRDCGCentralCalibrate(x *[3]float64, fx float64, diffs *gulfRDCGCentralD
 	var slope [3]float64
 	scale := gulfRDCGCentralAbs(fx)
 	quarter := gulfRDCGCentralSquareRoot(gulfRDCGCentralSquareRoot(gulfRDCGCentralUnitRoundoff)) // u^(1/4)
+	calls := 0
 	for i := range probe {
-		if 4*(i+1) > budget {
-			return 4 * i, false
+		if calls+4 > budget {
+			return calls, false
 		}
 		xi := probe[i]
 		bar := quarter * gulfRDCGCentralLarger(1, gulfRDCGCentralAbs(xi))
+		lower, upper := gulfRDCGCentralCoordinateRange(i, diffs)
+		if xi+2*bar > upper || xi-2*bar < lower {
+			// At a bound: three probes on the side with room, at h, 2h
+			// and 3h, for f‴ ≈ (f(3h) − 3f(2h) + 3f(h) − f(0))/h³ (the
+			// third forward difference).
+			h := gulfRDCGCentralOneSide(xi, bar, 3, lower, upper)
+			if h == 0 {
+				continue // fixed by equal bounds
+			}
+			var f [3]float64
+			for k := range f {
+				probe[i], _ = gulfRDCGCentralProbeStep(xi, float64(k+1)*h, lower, upper)
+				f[k] = GulfRD(&probe)
+				scale = gulfRDCGCentralLarger(scale, gulfRDCGCentralMagnitude(f[k]))
+			}
+			probe[i] = xi
+			calls += 3
+			if gulfRDCGCentralFinite(f[0]) && gulfRDCGCentralFinite(f[1]) && gulfRDCGCentralFinite(f[2]) {
+				diffs.curvature[i] = gulfRDCGCentralAbs(f[2]-3*f[1]+3*f[0]-fx) / gulfRDCGCentralAbs(h*h*h)
+				diffs.second[i] = gulfRDCGCentralAbs(fx-2*f[0]+f[1]) / (h * h)
+				slope[i] = (-3*fx + 4*f[0] - f[1]) / (2 * h)
+			}
+			continue
+		}
 		var f [4]float64
 		for k, m := range [4]float64{2, 1, -1, -2} {
-			probe[i], _ = gulfRDCGCentralProbeStep(xi, m*bar)
+			probe[i], _ = gulfRDCGCentralProbeStep(xi, m*bar, lower, upper)
 			f[k] = GulfRD(&probe)
 			scale = gulfRDCGCentralLarger(scale, gulfRDCGCentralMagnitude(f[k]))
 		}
 		probe[i] = xi
+		calls += 4
 		if gulfRDCGCentralFinite(f[0]) && gulfRDCGCentralFinite(f[1]) && gulfRDCGCentralFinite(f[2]) && gulfRDCGCentralFinite(f[3]) {
 			diffs.curvature[i] = gulfRDCGCentralAbs(f[0]-2*f[1]+2*f[2]-f[3]) / (2 * bar * bar * bar)
 			diffs.second[i] = gulfRDCGCentralAbs(f[1]-2*fx+f[2]) / (bar * bar)
@@ -428,7 +462,7 @@ func gulfRDCGCentralCalibrate(x *[3]float64, fx float64, diffs *gulfRDCGCentralD
 		diffs.ratio[i] = gulfRDCGCentralClampBetween(h, 64*gulfRDCGCentralUnitRoundoff*s, bar) / s
 		diffs.curvature[i] = third
 	}
-	return 4 * len(probe), true
+	return calls, true
 }
 
 // gulfRDCGCentralAbs returns |v|.
@@ -454,10 +488,48 @@ func gulfRDCGCentralLarger(a, b float64) float64 {
 	return b
 }
 
-// gulfRDCGCentralProbeStep returns x_i moved by h, and the step actually representable.
-func gulfRDCGCentralProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// gulfRDCGCentralCoordinateRange: without bounds any probe is allowed.
+func gulfRDCGCentralCoordinateRange(i int, diffs *gulfRDCGCentralDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// gulfRDCGCentralOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func gulfRDCGCentralOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
+}
+
+// gulfRDCGCentralProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func gulfRDCGCentralProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := gulfRDCGCentralClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// gulfRDCGCentralClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func gulfRDCGCentralClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
 }
 
 // gulfRDCGCentralMagnitude is |v| for a finite v and 0 otherwise: a probe that fell
@@ -493,42 +565,85 @@ func gulfRDCGCentralCubeRoot(v float64) float64 {
 	return math.Cbrt(v)
 }
 
-// gulfRDCGCentralClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func gulfRDCGCentralClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
-}
-
 // gulfRDCGCentralDerivative approximates the gradient by central differences,
 //
 //	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),
 //
 // with the intervals gulfRDCGCentralCalibrate chose, h_i = ratio_i·max(1, |x_i|)
-// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls; fx is
-// not needed.
-func gulfRDCGCentralDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *gulfRDCGCentralDifferences) {
+// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls. Where
+// a bound leaves no room on one side, the three-point endpoint formula on
+// the other side takes its place at the same cost (see parabola); a
+// variable fixed by equal bounds costs nothing and gets 0.
+func gulfRDCGCentralDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *gulfRDCGCentralDifferences) int {
 	probe := *x
+	calls := 0
 	for i := range probe {
 		xi := probe[i]
-		h := diffs.ratio[i] * gulfRDCGCentralLarger(1, gulfRDCGCentralAbs(xi))
-		up, _ := gulfRDCGCentralProbeStep(xi, h)
-		down, _ := gulfRDCGCentralProbeStep(xi, -h)
-		probe[i] = up
-		fUp := GulfRD(&probe)
-		probe[i] = down
-		fDown := GulfRD(&probe)
-		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
-		probe[i] = xi
+		h, oneSided := gulfRDCGCentralCentralInterval(x, i, diffs)
+		lower, upper := gulfRDCGCentralCoordinateRange(i, diffs)
+		switch {
+		case h == 0:
+			g[i] = 0 // fixed by equal bounds
+			continue
+		case oneSided:
+			g[i], _, _ = gulfRDCGCentralSidedProbes(&probe, i, fx, h, lower, upper) // the three-point endpoint formula
+		default:
+			up, _ := gulfRDCGCentralProbeStep(xi, h, lower, upper)
+			down, _ := gulfRDCGCentralProbeStep(xi, -h, lower, upper)
+			probe[i] = up
+			fUp := GulfRD(&probe)
+			probe[i] = down
+			fDown := GulfRD(&probe)
+			g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+			probe[i] = xi
+		}
+		calls += 2
 	}
+	return calls
+}
+
+// gulfRDCGCentralCentralInterval is the interval of coordinate i at x, ratio_i·max(1,
+// |x_i|), and whether the box leaves room for probes on both sides; when
+// it does not, the interval is signed towards the side with room for
+// probes at h and 2h, and shortened where the box is narrower than that
+// (see gulfRDCGCentralOneSide).
+func gulfRDCGCentralCentralInterval(x *[3]float64, i int, diffs *gulfRDCGCentralDifferences) (h float64, oneSided bool) {
+	lower, upper := gulfRDCGCentralCoordinateRange(i, diffs)
+	h = diffs.ratio[i] * gulfRDCGCentralLarger(1, gulfRDCGCentralAbs(x[i]))
+	if x[i]+h <= upper && x[i]-h >= lower {
+		return h, false
+	}
+	return gulfRDCGCentralOneSide(x[i], h, 2, lower, upper), true
+}
+
+// gulfRDCGCentralSidedProbes evaluates f at x moved along coordinate i by h and by 2h,
+// kept within [lower, upper], and returns the slope and second derivative
+// of the parabola through them and (x, fx) (see parabola), and the larger
+// magnitude of the two values.
+func gulfRDCGCentralSidedProbes(probe *[3]float64, i int, fx, h, lower, upper float64) (slope, second, size float64) {
+	xi := probe[i]
+	near, a := gulfRDCGCentralProbeStep(xi, h, lower, upper)
+	far, b := gulfRDCGCentralProbeStep(xi, 2*h, lower, upper)
+	probe[i] = near
+	fNear := GulfRD(probe)
+	probe[i] = far
+	fFar := GulfRD(probe)
+	probe[i] = xi
+	slope, second = gulfRDCGCentralParabola(fx, a, fNear, b, fFar)
+	return slope, second, gulfRDCGCentralLarger(gulfRDCGCentralMagnitude(fNear), gulfRDCGCentralMagnitude(fFar))
+}
+
+// gulfRDCGCentralParabola returns the first and second derivatives at 0 of the parabola
+// through (0, f0), (a, fa) and (b, fb), for probes on one side of a bound.
+// With b = 2a they are the three-point endpoint formulas
+// f′ ≈ (−3f0 + 4fa − fb)/(2a), error a²|f‴|/3, and
+// f″ ≈ (f0 − 2fa + fb)/a² (Burden & Faires, Numerical Analysis, §4.1
+// and §4.1's second-derivative formulas, from memory); written for unequal
+// a and b, so that the representable steps can be used.
+func gulfRDCGCentralParabola(f0, a, fa, b, fb float64) (slope, second float64) {
+	slope = -(a+b)/(a*b)*f0 + b/(a*(b-a))*fa - a/(b*(b-a))*fb
+	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
+	return slope, second
 }
 
 // gulfRDCGCentralDirection is nonlinear conjugate gradients with the Polak–Ribière
@@ -650,13 +765,13 @@ func gulfRDCGCentralConfirmGradient(x *[3]float64, fx float64, g, e *[3]float64,
 		wide.ratio[i] *= 2
 	}
 	var doubled [3]float64
-	gulfRDCGCentralDerivative(x, fx, g, diffs)
-	gulfRDCGCentralDerivative(x, fx, &doubled, &wide)
+	calls += gulfRDCGCentralDerivative(x, fx, g, diffs)
+	calls += gulfRDCGCentralDerivative(x, fx, &doubled, &wide)
 	gulfRDCGCentralGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * gulfRDCGCentralAbs(g[i]-doubled[i])
 	}
-	return calls + 2*gulfRDCGCentralDerivativeCost, true
+	return calls, true
 }
 
 // gulfRDCGCentralGradientError bounds each central difference's error by twice its
@@ -666,8 +781,16 @@ func gulfRDCGCentralConfirmGradient(x *[3]float64, fx float64, g, e *[3]float64,
 func gulfRDCGCentralGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *gulfRDCGCentralDifferences) {
 	noise := gulfRDCGCentralNoiseLevel(x, fx, g)
 	for i := range e {
-		h := diffs.ratio[i] * gulfRDCGCentralLarger(1, gulfRDCGCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		h, oneSided := gulfRDCGCentralCentralInterval(x, i, diffs)
+		h = gulfRDCGCentralAbs(h)
+		switch {
+		case h == 0:
+			e[i] = 0 // fixed by equal bounds
+		case oneSided:
+			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+		default:
+			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		}
 	}
 }
 
@@ -689,6 +812,11 @@ func gulfRDCGCentralRoundingFloor(x, g, e *[3]float64, diffs *gulfRDCGCentralDif
 // calibration, which gulfRDCGCentralConfirmGradient has just made at x.
 func gulfRDCGCentralDiagonalCurvature(x, g *[3]float64, diffs *gulfRDCGCentralDifferences, h *[3]float64) {
 	*h = diffs.second
+}
+
+// gulfRDCGCentralStationarity measures the gradient itself.
+func gulfRDCGCentralStationarity(g, e, x *[3]float64, fx float64, b *gulfRDCGCentralBox) (measure, floor float64) {
+	return gulfRDCGCentralGradientMeasure(g, e, x, fx)
 }
 
 // gulfRDCGCentralGradientMeasure is the scale-free measure
@@ -724,6 +852,14 @@ func gulfRDCGCentralStepWithin(s, x *[3]float64, tol float64) bool {
 	return true
 }
 
+// gulfRDCGCentralCurvaturePair: without bounds the pair is used as it is.
+func gulfRDCGCentralCurvaturePair(s, y, x *[3]float64, b *gulfRDCGCentralBox) {}
+
+// gulfRDCGCentralSearchDirection is the direction's own.
+func gulfRDCGCentralSearchDirection(dir *gulfRDCGCentralDirection, x, g, d *[3]float64, b *gulfRDCGCentralBox) {
+	dir.compute(g, d)
+}
+
 // gulfRDCGCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func gulfRDCGCentralTinyStep(x, d *[3]float64, tol float64) float64 {
@@ -751,7 +887,10 @@ func gulfRDCGCentralTinyStep(x, d *[3]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (gulfRDCGCentralStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -760,13 +899,17 @@ func gulfRDCGCentralTinyStep(x, d *[3]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func gulfRDCGCentralLineSearch(x *[3]float64, fx float64, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *gulfRDCGCentralDifferences) gulfRDCGCentralLineResult {
+func gulfRDCGCentralLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *gulfRDCGCentralDifferences) gulfRDCGCentralLineResult {
 	low := gulfRDCGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high gulfRDCGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                               // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend gulfRDCGCentralRiseTrend // of the trials failing sufficient decrease
+	var trend gulfRDCGCentralRiseTrend                         // of the trials failing sufficient decrease
+	limit := gulfRDCGCentralStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < gulfRDCGCentralStepTrials; trial++ {
 		if bracketed && gulfRDCGCentralAbs(high.step-low.step) <= tiny {
@@ -776,12 +919,12 @@ func gulfRDCGCentralLineSearch(x *[3]float64, fx float64, d *[3]float64, slope, 
 			if low.step == 0 {
 				return gulfRDCGCentralLineResult{calls: calls, rising: trend.contradicts(), end: gulfRDCGCentralTinyOrExhausted(gulfRDCGCentralFinite(high.value))}
 			}
-			return gulfRDCGCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return gulfRDCGCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return gulfRDCGCentralLineResult{calls: calls, end: gulfRDCGCentralSearchOutOfBudget}
 		}
-		gulfRDCGCentralMoveTo(xt, x, t, d)
+		gulfRDCGCentralTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := gulfRDCGCentralLinePoint{step: t, value: GulfRD(xt)}
 		calls++
 		previous := low
@@ -792,8 +935,7 @@ func gulfRDCGCentralLineSearch(x *[3]float64, fx float64, d *[3]float64, slope, 
 			if calls+gulfRDCGCentralDerivativeCost > budget {
 				return gulfRDCGCentralLineResult{calls: calls, end: gulfRDCGCentralSearchOutOfBudget}
 			}
-			gulfRDCGCentralDerivative(xt, current.value, gt, diffs)
-			calls += gulfRDCGCentralDerivativeCost
+			calls += gulfRDCGCentralDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = gulfRDCGCentralDot(gt, d), true
 			switch {
 			case !gulfRDCGCentralFinite(current.slope):
@@ -804,18 +946,22 @@ func gulfRDCGCentralLineSearch(x *[3]float64, fx float64, d *[3]float64, slope, 
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return gulfRDCGCentralLineResult{step: t, value: current.value, calls: calls, gradient: true, end: gulfRDCGCentralSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = gulfRDCGCentralZoomTrial(&low, &high)
-		} else {
-			t = gulfRDCGCentralExpandTrial(&previous, &current)
+		} else if t = gulfRDCGCentralExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return gulfRDCGCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return gulfRDCGCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return gulfRDCGCentralLineResult{calls: calls, rising: trend.contradicts(), end: gulfRDCGCentralSearchExhausted}
 }
@@ -902,6 +1048,11 @@ func gulfRDCGCentralFaithfulStep(x, xt, d *[3]float64, t float64) bool {
 	return true
 }
 
+// gulfRDCGCentralStepCap: without bounds a step may be as long as the search wants.
+func gulfRDCGCentralStepCap(x, d *[3]float64, tiny float64, b *gulfRDCGCentralBox) float64 {
+	return math.Inf(1)
+}
+
 // gulfRDCGCentralTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -926,10 +1077,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func gulfRDCGCentralAcceptLow(x, d *[3]float64, low *gulfRDCGCentralLinePoint, lowGradient *[3]float64, calls int, xt, gt *[3]float64) gulfRDCGCentralLineResult {
-	gulfRDCGCentralMoveTo(xt, x, low.step, d)
+func gulfRDCGCentralAcceptLow(x, d *[3]float64, low *gulfRDCGCentralLinePoint, lowGradient *[3]float64, calls int, xt, gt *[3]float64, diffs *gulfRDCGCentralDifferences) gulfRDCGCentralLineResult {
+	gulfRDCGCentralTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return gulfRDCGCentralLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: gulfRDCGCentralSearchAccepted}
+}
+
+// gulfRDCGCentralTrialPoint is x + t·d.
+func gulfRDCGCentralTrialPoint(out, x *[3]float64, t float64, d *[3]float64, b *gulfRDCGCentralBox) {
+	gulfRDCGCentralMoveTo(out, x, t, d)
 }
 
 // gulfRDCGCentralMoveTo sets out = x + t·d.

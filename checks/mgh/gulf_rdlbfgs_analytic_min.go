@@ -88,6 +88,9 @@ func GulfRDLBFGSAnalyticDefaultLimits() GulfRDLBFGSAnalyticLimits {
 	}
 }
 
+// gulfRDLBFGSAnalyticBox is empty: mgh.toml sets no bounds on GulfRDLBFGSAnalytic.
+type gulfRDLBFGSAnalyticBox struct{}
+
 // GulfRDLBFGSAnalytic minimizes GulfRD from x0, as mgh.toml specifies.
 //
 // Direction lbfgs: limited-memory BFGS: the last `memory` pairs, two-loop recursion (2·memory·dim numbers).
@@ -105,7 +108,7 @@ func GulfRDLBFGSAnalytic(x0 [3]float64) GulfRDLBFGSAnalyticResult {
 
 // GulfRDLBFGSAnalyticWithLimits is GulfRDLBFGSAnalytic with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func GulfRDLBFGSAnalyticWithLimits(x0 [3]float64, limits GulfRDLBFGSAnalyticLimits) GulfRDLBFGSAnalyticResult {
-	out := gulfRDLBFGSAnalyticMinimize(x0, limits)
+	out := gulfRDLBFGSAnalyticMinimize(x0, limits, gulfRDLBFGSAnalyticBox{})
 	return GulfRDLBFGSAnalyticResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -159,27 +162,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func gulfRDLBFGSAnalyticMinimize(x0 [3]float64, lim GulfRDLBFGSAnalyticLimits) gulfRDLBFGSAnalyticOutcome {
-	out := gulfRDLBFGSAnalyticOutcome{x: x0, status: GulfRDLBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
+func gulfRDLBFGSAnalyticMinimize(x0 [3]float64, lim GulfRDLBFGSAnalyticLimits, bounds gulfRDLBFGSAnalyticBox) gulfRDLBFGSAnalyticOutcome {
+	x := x0
+	gulfRDLBFGSAnalyticEnterBox(&x, &bounds)
+	out := gulfRDLBFGSAnalyticOutcome{x: x, status: GulfRDLBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := GulfRD(&x)
 	out.f, out.evaluations = fx, 1
 	if !gulfRDLBFGSAnalyticFinite(fx) || !gulfRDLBFGSAnalyticFiniteVec(&x) {
 		out.status = GulfRDLBFGSAnalyticNonFiniteStart
 		return out
 	}
-	var diffs gulfRDLBFGSAnalyticDifferences
+	diffs := gulfRDLBFGSAnalyticDifferences{bounds: bounds}
 	calls, ok := gulfRDLBFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+gulfRDLBFGSAnalyticDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [3]float64
-	gulfRDLBFGSAnalyticDerivative(&x, fx, &g, &diffs)
-	out.evaluations += gulfRDLBFGSAnalyticDerivativeCost
+	out.evaluations += gulfRDLBFGSAnalyticDerivative(&x, fx, &g, &diffs)
 
 	if !gulfRDLBFGSAnalyticFiniteVec(&g) {
 		out.status = GulfRDLBFGSAnalyticNonFiniteGradient
@@ -212,7 +215,7 @@ func gulfRDLBFGSAnalyticMinimize(x0 [3]float64, lim GulfRDLBFGSAnalyticLimits) g
 		case !confirmed:
 			gulfRDLBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := gulfRDLBFGSAnalyticGradientMeasure(&g, &e, &x, fx)
+		measure, floor := gulfRDLBFGSAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, gulfRDLBFGSAnalyticLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -251,16 +254,17 @@ func gulfRDLBFGSAnalyticMinimize(x0 [3]float64, lim GulfRDLBFGSAnalyticLimits) g
 			if rises >= 8 {
 				return best.ending(GulfRDLBFGSAnalyticDiverged, out.iterations, out.evaluations)
 			}
+			gulfRDLBFGSAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(GulfRDLBFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		gulfRDLBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := gulfRDLBFGSAnalyticDot(&g, &d)
 		if !(now < 0) || !gulfRDLBFGSAnalyticFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			gulfRDLBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = gulfRDLBFGSAnalyticDot(&g, &d)
 		}
 		first := float64(gulfRDLBFGSAnalyticStepInitial)
@@ -268,7 +272,7 @@ func gulfRDLBFGSAnalyticMinimize(x0 [3]float64, lim GulfRDLBFGSAnalyticLimits) g
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := gulfRDLBFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := gulfRDLBFGSAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := gulfRDLBFGSAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case gulfRDLBFGSAnalyticSearchOutOfBudget:
@@ -304,8 +308,7 @@ func gulfRDLBFGSAnalyticMinimize(x0 [3]float64, lim GulfRDLBFGSAnalyticLimits) g
 				}
 				return best.ending(GulfRDLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			gulfRDLBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += gulfRDLBFGSAnalyticDerivativeCost
+			out.evaluations += gulfRDLBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		gulfRDLBFGSAnalyticDifference(&s, &xt, &x)
@@ -346,6 +349,9 @@ func (o gulfRDLBFGSAnalyticOutcome) ending(end GulfRDLBFGSAnalyticStatus, iterat
 	return o
 }
 
+// gulfRDLBFGSAnalyticEnterBox: without bounds every start is inside.
+func gulfRDLBFGSAnalyticEnterBox(x *[3]float64, b *gulfRDLBFGSAnalyticBox) {}
+
 // gulfRDLBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -368,15 +374,17 @@ func gulfRDLBFGSAnalyticFiniteVec(x *[3]float64) bool {
 	return true
 }
 
-// gulfRDLBFGSAnalyticDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// gulfRDLBFGSAnalyticDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type gulfRDLBFGSAnalyticDifferences struct {
 	ratio     [3]float64
 	curvature [3]float64
 	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see gulfRDLBFGSAnalyticRoundingFloor)
+	bounds    gulfRDLBFGSAnalyticBox
 }
 
 // gulfRDLBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
@@ -385,8 +393,9 @@ func gulfRDLBFGSAnalyticCalibrate(x *[3]float64, fx float64, diffs *gulfRDLBFGSA
 }
 
 // gulfRDLBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func gulfRDLBFGSAnalyticDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *gulfRDLBFGSAnalyticDifferences) {
+func gulfRDLBFGSAnalyticDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *gulfRDLBFGSAnalyticDifferences) int {
 	GulfRDGrad(x, g)
+	return 0
 }
 
 // gulfRDLBFGSAnalyticDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
@@ -551,13 +560,13 @@ func gulfRDLBFGSAnalyticConfirmGradient(x *[3]float64, fx float64, g, e *[3]floa
 		wide.ratio[i] *= 2
 	}
 	var doubled [3]float64
-	gulfRDLBFGSAnalyticDerivative(x, fx, g, diffs)
-	gulfRDLBFGSAnalyticDerivative(x, fx, &doubled, &wide)
+	calls += gulfRDLBFGSAnalyticDerivative(x, fx, g, diffs)
+	calls += gulfRDLBFGSAnalyticDerivative(x, fx, &doubled, &wide)
 	gulfRDLBFGSAnalyticGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * gulfRDLBFGSAnalyticAbs(g[i]-doubled[i])
 	}
-	return calls + 2*gulfRDLBFGSAnalyticDerivativeCost, true
+	return calls, true
 }
 
 // gulfRDLBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
@@ -599,18 +608,60 @@ func gulfRDLBFGSAnalyticDiagonalCurvature(x, g *[3]float64, diffs *gulfRDLBFGSAn
 	var moved [3]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := gulfRDLBFGSAnalyticProbeStep(xi, gulfRDLBFGSAnalyticSquareRoot(gulfRDLBFGSAnalyticUnitRoundoff)*gulfRDLBFGSAnalyticLarger(1, gulfRDLBFGSAnalyticAbs(xi)))
-		probe[i] = up
-		GulfRDGrad(&probe, &moved)
-		h[i] = gulfRDLBFGSAnalyticAbs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := gulfRDLBFGSAnalyticCoordinateRange(i, diffs)
+		up, delta := gulfRDLBFGSAnalyticProbeStep(xi, gulfRDLBFGSAnalyticOneSide(xi, gulfRDLBFGSAnalyticSquareRoot(gulfRDLBFGSAnalyticUnitRoundoff)*gulfRDLBFGSAnalyticLarger(1, gulfRDLBFGSAnalyticAbs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			GulfRDGrad(&probe, &moved)
+			h[i] = gulfRDLBFGSAnalyticAbs(moved[i]-g[i]) / gulfRDLBFGSAnalyticAbs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// gulfRDLBFGSAnalyticProbeStep returns x_i moved by h, and the step actually representable.
-func gulfRDLBFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// gulfRDLBFGSAnalyticCoordinateRange: without bounds any probe is allowed.
+func gulfRDLBFGSAnalyticCoordinateRange(i int, diffs *gulfRDLBFGSAnalyticDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// gulfRDLBFGSAnalyticProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func gulfRDLBFGSAnalyticProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := gulfRDLBFGSAnalyticClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// gulfRDLBFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func gulfRDLBFGSAnalyticClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// gulfRDLBFGSAnalyticOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func gulfRDLBFGSAnalyticOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // gulfRDLBFGSAnalyticSquareRoot returns √v.
@@ -626,6 +677,11 @@ func gulfRDLBFGSAnalyticLarger(a, b float64) float64 {
 		return a
 	}
 	return b
+}
+
+// gulfRDLBFGSAnalyticStationarity measures the gradient itself.
+func gulfRDLBFGSAnalyticStationarity(g, e, x *[3]float64, fx float64, b *gulfRDLBFGSAnalyticBox) (measure, floor float64) {
+	return gulfRDLBFGSAnalyticGradientMeasure(g, e, x, fx)
 }
 
 // gulfRDLBFGSAnalyticGradientMeasure is the scale-free measure
@@ -661,6 +717,14 @@ func gulfRDLBFGSAnalyticStepWithin(s, x *[3]float64, tol float64) bool {
 	return true
 }
 
+// gulfRDLBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
+func gulfRDLBFGSAnalyticCurvaturePair(s, y, x *[3]float64, b *gulfRDLBFGSAnalyticBox) {}
+
+// gulfRDLBFGSAnalyticSearchDirection is the direction's own.
+func gulfRDLBFGSAnalyticSearchDirection(dir *gulfRDLBFGSAnalyticDirection, x, g, d *[3]float64, b *gulfRDLBFGSAnalyticBox) {
+	dir.compute(g, d)
+}
+
 // gulfRDLBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func gulfRDLBFGSAnalyticTinyStep(x, d *[3]float64, tol float64) float64 {
@@ -688,7 +752,10 @@ func gulfRDLBFGSAnalyticTinyStep(x, d *[3]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (gulfRDLBFGSAnalyticStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -697,13 +764,17 @@ func gulfRDLBFGSAnalyticTinyStep(x, d *[3]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func gulfRDLBFGSAnalyticLineSearch(x *[3]float64, fx float64, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *gulfRDLBFGSAnalyticDifferences) gulfRDLBFGSAnalyticLineResult {
+func gulfRDLBFGSAnalyticLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *gulfRDLBFGSAnalyticDifferences) gulfRDLBFGSAnalyticLineResult {
 	low := gulfRDLBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high gulfRDLBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                                   // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend gulfRDLBFGSAnalyticRiseTrend // of the trials failing sufficient decrease
+	var trend gulfRDLBFGSAnalyticRiseTrend                         // of the trials failing sufficient decrease
+	limit := gulfRDLBFGSAnalyticStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < gulfRDLBFGSAnalyticStepTrials; trial++ {
 		if bracketed && gulfRDLBFGSAnalyticAbs(high.step-low.step) <= tiny {
@@ -713,12 +784,12 @@ func gulfRDLBFGSAnalyticLineSearch(x *[3]float64, fx float64, d *[3]float64, slo
 			if low.step == 0 {
 				return gulfRDLBFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: gulfRDLBFGSAnalyticTinyOrExhausted(gulfRDLBFGSAnalyticFinite(high.value))}
 			}
-			return gulfRDLBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return gulfRDLBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return gulfRDLBFGSAnalyticLineResult{calls: calls, end: gulfRDLBFGSAnalyticSearchOutOfBudget}
 		}
-		gulfRDLBFGSAnalyticMoveTo(xt, x, t, d)
+		gulfRDLBFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := gulfRDLBFGSAnalyticLinePoint{step: t, value: GulfRD(xt)}
 		calls++
 		previous := low
@@ -729,8 +800,7 @@ func gulfRDLBFGSAnalyticLineSearch(x *[3]float64, fx float64, d *[3]float64, slo
 			if calls+gulfRDLBFGSAnalyticDerivativeCost > budget {
 				return gulfRDLBFGSAnalyticLineResult{calls: calls, end: gulfRDLBFGSAnalyticSearchOutOfBudget}
 			}
-			gulfRDLBFGSAnalyticDerivative(xt, current.value, gt, diffs)
-			calls += gulfRDLBFGSAnalyticDerivativeCost
+			calls += gulfRDLBFGSAnalyticDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = gulfRDLBFGSAnalyticDot(gt, d), true
 			switch {
 			case !gulfRDLBFGSAnalyticFinite(current.slope):
@@ -741,18 +811,22 @@ func gulfRDLBFGSAnalyticLineSearch(x *[3]float64, fx float64, d *[3]float64, slo
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return gulfRDLBFGSAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: gulfRDLBFGSAnalyticSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = gulfRDLBFGSAnalyticZoomTrial(&low, &high)
-		} else {
-			t = gulfRDLBFGSAnalyticExpandTrial(&previous, &current)
+		} else if t = gulfRDLBFGSAnalyticExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return gulfRDLBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return gulfRDLBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return gulfRDLBFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: gulfRDLBFGSAnalyticSearchExhausted}
 }
@@ -839,6 +913,11 @@ func gulfRDLBFGSAnalyticFaithfulStep(x, xt, d *[3]float64, t float64) bool {
 	return true
 }
 
+// gulfRDLBFGSAnalyticStepCap: without bounds a step may be as long as the search wants.
+func gulfRDLBFGSAnalyticStepCap(x, d *[3]float64, tiny float64, b *gulfRDLBFGSAnalyticBox) float64 {
+	return math.Inf(1)
+}
+
 // gulfRDLBFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -863,10 +942,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func gulfRDLBFGSAnalyticAcceptLow(x, d *[3]float64, low *gulfRDLBFGSAnalyticLinePoint, lowGradient *[3]float64, calls int, xt, gt *[3]float64) gulfRDLBFGSAnalyticLineResult {
-	gulfRDLBFGSAnalyticMoveTo(xt, x, low.step, d)
+func gulfRDLBFGSAnalyticAcceptLow(x, d *[3]float64, low *gulfRDLBFGSAnalyticLinePoint, lowGradient *[3]float64, calls int, xt, gt *[3]float64, diffs *gulfRDLBFGSAnalyticDifferences) gulfRDLBFGSAnalyticLineResult {
+	gulfRDLBFGSAnalyticTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return gulfRDLBFGSAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: gulfRDLBFGSAnalyticSearchAccepted}
+}
+
+// gulfRDLBFGSAnalyticTrialPoint is x + t·d.
+func gulfRDLBFGSAnalyticTrialPoint(out, x *[3]float64, t float64, d *[3]float64, b *gulfRDLBFGSAnalyticBox) {
+	gulfRDLBFGSAnalyticMoveTo(out, x, t, d)
 }
 
 // gulfRDLBFGSAnalyticMoveTo sets out = x + t·d.
@@ -921,21 +1005,6 @@ func gulfRDLBFGSAnalyticModelMinimizer(a, b *gulfRDLBFGSAnalyticLinePoint) (t fl
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, gulfRDLBFGSAnalyticFinite(t)
-}
-
-// gulfRDLBFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func gulfRDLBFGSAnalyticClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // gulfRDLBFGSAnalyticExpandTrial picks a larger trial after current met sufficient decrease

@@ -88,6 +88,9 @@ func GulfRDLBFGSCentralDefaultLimits() GulfRDLBFGSCentralLimits {
 	}
 }
 
+// gulfRDLBFGSCentralBox is empty: mgh.toml sets no bounds on GulfRDLBFGSCentral.
+type gulfRDLBFGSCentralBox struct{}
+
 // GulfRDLBFGSCentral minimizes GulfRD from x0, as mgh.toml specifies.
 //
 // Direction lbfgs: limited-memory BFGS: the last `memory` pairs, two-loop recursion (2·memory·dim numbers).
@@ -105,7 +108,7 @@ func GulfRDLBFGSCentral(x0 [3]float64) GulfRDLBFGSCentralResult {
 
 // GulfRDLBFGSCentralWithLimits is GulfRDLBFGSCentral with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func GulfRDLBFGSCentralWithLimits(x0 [3]float64, limits GulfRDLBFGSCentralLimits) GulfRDLBFGSCentralResult {
-	out := gulfRDLBFGSCentralMinimize(x0, limits)
+	out := gulfRDLBFGSCentralMinimize(x0, limits, gulfRDLBFGSCentralBox{})
 	return GulfRDLBFGSCentralResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -159,27 +162,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func gulfRDLBFGSCentralMinimize(x0 [3]float64, lim GulfRDLBFGSCentralLimits) gulfRDLBFGSCentralOutcome {
-	out := gulfRDLBFGSCentralOutcome{x: x0, status: GulfRDLBFGSCentralOutOfEvaluations, gradient: math.NaN()}
+func gulfRDLBFGSCentralMinimize(x0 [3]float64, lim GulfRDLBFGSCentralLimits, bounds gulfRDLBFGSCentralBox) gulfRDLBFGSCentralOutcome {
+	x := x0
+	gulfRDLBFGSCentralEnterBox(&x, &bounds)
+	out := gulfRDLBFGSCentralOutcome{x: x, status: GulfRDLBFGSCentralOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := GulfRD(&x)
 	out.f, out.evaluations = fx, 1
 	if !gulfRDLBFGSCentralFinite(fx) || !gulfRDLBFGSCentralFiniteVec(&x) {
 		out.status = GulfRDLBFGSCentralNonFiniteStart
 		return out
 	}
-	var diffs gulfRDLBFGSCentralDifferences
+	diffs := gulfRDLBFGSCentralDifferences{bounds: bounds}
 	calls, ok := gulfRDLBFGSCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+gulfRDLBFGSCentralDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [3]float64
-	gulfRDLBFGSCentralDerivative(&x, fx, &g, &diffs)
-	out.evaluations += gulfRDLBFGSCentralDerivativeCost
+	out.evaluations += gulfRDLBFGSCentralDerivative(&x, fx, &g, &diffs)
 
 	if !gulfRDLBFGSCentralFiniteVec(&g) {
 		out.status = GulfRDLBFGSCentralNonFiniteGradient
@@ -212,7 +215,7 @@ func gulfRDLBFGSCentralMinimize(x0 [3]float64, lim GulfRDLBFGSCentralLimits) gul
 		case !confirmed:
 			gulfRDLBFGSCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := gulfRDLBFGSCentralGradientMeasure(&g, &e, &x, fx)
+		measure, floor := gulfRDLBFGSCentralStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, gulfRDLBFGSCentralLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -251,16 +254,17 @@ func gulfRDLBFGSCentralMinimize(x0 [3]float64, lim GulfRDLBFGSCentralLimits) gul
 			if rises >= 8 {
 				return best.ending(GulfRDLBFGSCentralDiverged, out.iterations, out.evaluations)
 			}
+			gulfRDLBFGSCentralCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(GulfRDLBFGSCentralOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		gulfRDLBFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := gulfRDLBFGSCentralDot(&g, &d)
 		if !(now < 0) || !gulfRDLBFGSCentralFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			gulfRDLBFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = gulfRDLBFGSCentralDot(&g, &d)
 		}
 		first := float64(gulfRDLBFGSCentralStepInitial)
@@ -268,7 +272,7 @@ func gulfRDLBFGSCentralMinimize(x0 [3]float64, lim GulfRDLBFGSCentralLimits) gul
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := gulfRDLBFGSCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := gulfRDLBFGSCentralLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := gulfRDLBFGSCentralLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case gulfRDLBFGSCentralSearchOutOfBudget:
@@ -304,8 +308,7 @@ func gulfRDLBFGSCentralMinimize(x0 [3]float64, lim GulfRDLBFGSCentralLimits) gul
 				}
 				return best.ending(GulfRDLBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			gulfRDLBFGSCentralDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += gulfRDLBFGSCentralDerivativeCost
+			out.evaluations += gulfRDLBFGSCentralDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		gulfRDLBFGSCentralDifference(&s, &xt, &x)
@@ -346,6 +349,9 @@ func (o gulfRDLBFGSCentralOutcome) ending(end GulfRDLBFGSCentralStatus, iteratio
 	return o
 }
 
+// gulfRDLBFGSCentralEnterBox: without bounds every start is inside.
+func gulfRDLBFGSCentralEnterBox(x *[3]float64, b *gulfRDLBFGSCentralBox) {}
+
 // gulfRDLBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -368,15 +374,17 @@ func gulfRDLBFGSCentralFiniteVec(x *[3]float64) bool {
 	return true
 }
 
-// gulfRDLBFGSCentralDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// gulfRDLBFGSCentralDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type gulfRDLBFGSCentralDifferences struct {
 	ratio     [3]float64
 	curvature [3]float64
 	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see gulfRDLBFGSCentralRoundingFloor)
+	bounds    gulfRDLBFGSCentralBox
 }
 
 // gulfRDLBFGSCentralCalibrate chooses each central-difference interval from the
@@ -398,19 +406,45 @@ func gulfRDLBFGSCentralCalibrate(x *[3]float64, fx float64, diffs *gulfRDLBFGSCe
 	var slope [3]float64
 	scale := gulfRDLBFGSCentralAbs(fx)
 	quarter := gulfRDLBFGSCentralSquareRoot(gulfRDLBFGSCentralSquareRoot(gulfRDLBFGSCentralUnitRoundoff)) // u^(1/4)
+	calls := 0
 	for i := range probe {
-		if 4*(i+1) > budget {
-			return 4 * i, false
+		if calls+4 > budget {
+			return calls, false
 		}
 		xi := probe[i]
 		bar := quarter * gulfRDLBFGSCentralLarger(1, gulfRDLBFGSCentralAbs(xi))
+		lower, upper := gulfRDLBFGSCentralCoordinateRange(i, diffs)
+		if xi+2*bar > upper || xi-2*bar < lower {
+			// At a bound: three probes on the side with room, at h, 2h
+			// and 3h, for f‴ ≈ (f(3h) − 3f(2h) + 3f(h) − f(0))/h³ (the
+			// third forward difference).
+			h := gulfRDLBFGSCentralOneSide(xi, bar, 3, lower, upper)
+			if h == 0 {
+				continue // fixed by equal bounds
+			}
+			var f [3]float64
+			for k := range f {
+				probe[i], _ = gulfRDLBFGSCentralProbeStep(xi, float64(k+1)*h, lower, upper)
+				f[k] = GulfRD(&probe)
+				scale = gulfRDLBFGSCentralLarger(scale, gulfRDLBFGSCentralMagnitude(f[k]))
+			}
+			probe[i] = xi
+			calls += 3
+			if gulfRDLBFGSCentralFinite(f[0]) && gulfRDLBFGSCentralFinite(f[1]) && gulfRDLBFGSCentralFinite(f[2]) {
+				diffs.curvature[i] = gulfRDLBFGSCentralAbs(f[2]-3*f[1]+3*f[0]-fx) / gulfRDLBFGSCentralAbs(h*h*h)
+				diffs.second[i] = gulfRDLBFGSCentralAbs(fx-2*f[0]+f[1]) / (h * h)
+				slope[i] = (-3*fx + 4*f[0] - f[1]) / (2 * h)
+			}
+			continue
+		}
 		var f [4]float64
 		for k, m := range [4]float64{2, 1, -1, -2} {
-			probe[i], _ = gulfRDLBFGSCentralProbeStep(xi, m*bar)
+			probe[i], _ = gulfRDLBFGSCentralProbeStep(xi, m*bar, lower, upper)
 			f[k] = GulfRD(&probe)
 			scale = gulfRDLBFGSCentralLarger(scale, gulfRDLBFGSCentralMagnitude(f[k]))
 		}
 		probe[i] = xi
+		calls += 4
 		if gulfRDLBFGSCentralFinite(f[0]) && gulfRDLBFGSCentralFinite(f[1]) && gulfRDLBFGSCentralFinite(f[2]) && gulfRDLBFGSCentralFinite(f[3]) {
 			diffs.curvature[i] = gulfRDLBFGSCentralAbs(f[0]-2*f[1]+2*f[2]-f[3]) / (2 * bar * bar * bar)
 			diffs.second[i] = gulfRDLBFGSCentralAbs(f[1]-2*fx+f[2]) / (bar * bar)
@@ -429,7 +463,7 @@ func gulfRDLBFGSCentralCalibrate(x *[3]float64, fx float64, diffs *gulfRDLBFGSCe
 		diffs.ratio[i] = gulfRDLBFGSCentralClampBetween(h, 64*gulfRDLBFGSCentralUnitRoundoff*s, bar) / s
 		diffs.curvature[i] = third
 	}
-	return 4 * len(probe), true
+	return calls, true
 }
 
 // gulfRDLBFGSCentralAbs returns |v|.
@@ -455,10 +489,48 @@ func gulfRDLBFGSCentralLarger(a, b float64) float64 {
 	return b
 }
 
-// gulfRDLBFGSCentralProbeStep returns x_i moved by h, and the step actually representable.
-func gulfRDLBFGSCentralProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// gulfRDLBFGSCentralCoordinateRange: without bounds any probe is allowed.
+func gulfRDLBFGSCentralCoordinateRange(i int, diffs *gulfRDLBFGSCentralDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// gulfRDLBFGSCentralOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func gulfRDLBFGSCentralOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
+}
+
+// gulfRDLBFGSCentralProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func gulfRDLBFGSCentralProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := gulfRDLBFGSCentralClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// gulfRDLBFGSCentralClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func gulfRDLBFGSCentralClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
 }
 
 // gulfRDLBFGSCentralMagnitude is |v| for a finite v and 0 otherwise: a probe that fell
@@ -494,42 +566,85 @@ func gulfRDLBFGSCentralCubeRoot(v float64) float64 {
 	return math.Cbrt(v)
 }
 
-// gulfRDLBFGSCentralClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func gulfRDLBFGSCentralClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
-}
-
 // gulfRDLBFGSCentralDerivative approximates the gradient by central differences,
 //
 //	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),
 //
 // with the intervals gulfRDLBFGSCentralCalibrate chose, h_i = ratio_i·max(1, |x_i|)
-// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls; fx is
-// not needed.
-func gulfRDLBFGSCentralDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *gulfRDLBFGSCentralDifferences) {
+// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls. Where
+// a bound leaves no room on one side, the three-point endpoint formula on
+// the other side takes its place at the same cost (see parabola); a
+// variable fixed by equal bounds costs nothing and gets 0.
+func gulfRDLBFGSCentralDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *gulfRDLBFGSCentralDifferences) int {
 	probe := *x
+	calls := 0
 	for i := range probe {
 		xi := probe[i]
-		h := diffs.ratio[i] * gulfRDLBFGSCentralLarger(1, gulfRDLBFGSCentralAbs(xi))
-		up, _ := gulfRDLBFGSCentralProbeStep(xi, h)
-		down, _ := gulfRDLBFGSCentralProbeStep(xi, -h)
-		probe[i] = up
-		fUp := GulfRD(&probe)
-		probe[i] = down
-		fDown := GulfRD(&probe)
-		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
-		probe[i] = xi
+		h, oneSided := gulfRDLBFGSCentralCentralInterval(x, i, diffs)
+		lower, upper := gulfRDLBFGSCentralCoordinateRange(i, diffs)
+		switch {
+		case h == 0:
+			g[i] = 0 // fixed by equal bounds
+			continue
+		case oneSided:
+			g[i], _, _ = gulfRDLBFGSCentralSidedProbes(&probe, i, fx, h, lower, upper) // the three-point endpoint formula
+		default:
+			up, _ := gulfRDLBFGSCentralProbeStep(xi, h, lower, upper)
+			down, _ := gulfRDLBFGSCentralProbeStep(xi, -h, lower, upper)
+			probe[i] = up
+			fUp := GulfRD(&probe)
+			probe[i] = down
+			fDown := GulfRD(&probe)
+			g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+			probe[i] = xi
+		}
+		calls += 2
 	}
+	return calls
+}
+
+// gulfRDLBFGSCentralCentralInterval is the interval of coordinate i at x, ratio_i·max(1,
+// |x_i|), and whether the box leaves room for probes on both sides; when
+// it does not, the interval is signed towards the side with room for
+// probes at h and 2h, and shortened where the box is narrower than that
+// (see gulfRDLBFGSCentralOneSide).
+func gulfRDLBFGSCentralCentralInterval(x *[3]float64, i int, diffs *gulfRDLBFGSCentralDifferences) (h float64, oneSided bool) {
+	lower, upper := gulfRDLBFGSCentralCoordinateRange(i, diffs)
+	h = diffs.ratio[i] * gulfRDLBFGSCentralLarger(1, gulfRDLBFGSCentralAbs(x[i]))
+	if x[i]+h <= upper && x[i]-h >= lower {
+		return h, false
+	}
+	return gulfRDLBFGSCentralOneSide(x[i], h, 2, lower, upper), true
+}
+
+// gulfRDLBFGSCentralSidedProbes evaluates f at x moved along coordinate i by h and by 2h,
+// kept within [lower, upper], and returns the slope and second derivative
+// of the parabola through them and (x, fx) (see parabola), and the larger
+// magnitude of the two values.
+func gulfRDLBFGSCentralSidedProbes(probe *[3]float64, i int, fx, h, lower, upper float64) (slope, second, size float64) {
+	xi := probe[i]
+	near, a := gulfRDLBFGSCentralProbeStep(xi, h, lower, upper)
+	far, b := gulfRDLBFGSCentralProbeStep(xi, 2*h, lower, upper)
+	probe[i] = near
+	fNear := GulfRD(probe)
+	probe[i] = far
+	fFar := GulfRD(probe)
+	probe[i] = xi
+	slope, second = gulfRDLBFGSCentralParabola(fx, a, fNear, b, fFar)
+	return slope, second, gulfRDLBFGSCentralLarger(gulfRDLBFGSCentralMagnitude(fNear), gulfRDLBFGSCentralMagnitude(fFar))
+}
+
+// gulfRDLBFGSCentralParabola returns the first and second derivatives at 0 of the parabola
+// through (0, f0), (a, fa) and (b, fb), for probes on one side of a bound.
+// With b = 2a they are the three-point endpoint formulas
+// f′ ≈ (−3f0 + 4fa − fb)/(2a), error a²|f‴|/3, and
+// f″ ≈ (f0 − 2fa + fb)/a² (Burden & Faires, Numerical Analysis, §4.1
+// and §4.1's second-derivative formulas, from memory); written for unequal
+// a and b, so that the representable steps can be used.
+func gulfRDLBFGSCentralParabola(f0, a, fa, b, fb float64) (slope, second float64) {
+	slope = -(a+b)/(a*b)*f0 + b/(a*(b-a))*fa - a/(b*(b-a))*fb
+	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
+	return slope, second
 }
 
 // gulfRDLBFGSCentralDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
@@ -694,13 +809,13 @@ func gulfRDLBFGSCentralConfirmGradient(x *[3]float64, fx float64, g, e *[3]float
 		wide.ratio[i] *= 2
 	}
 	var doubled [3]float64
-	gulfRDLBFGSCentralDerivative(x, fx, g, diffs)
-	gulfRDLBFGSCentralDerivative(x, fx, &doubled, &wide)
+	calls += gulfRDLBFGSCentralDerivative(x, fx, g, diffs)
+	calls += gulfRDLBFGSCentralDerivative(x, fx, &doubled, &wide)
 	gulfRDLBFGSCentralGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * gulfRDLBFGSCentralAbs(g[i]-doubled[i])
 	}
-	return calls + 2*gulfRDLBFGSCentralDerivativeCost, true
+	return calls, true
 }
 
 // gulfRDLBFGSCentralGradientError bounds each central difference's error by twice its
@@ -710,8 +825,16 @@ func gulfRDLBFGSCentralConfirmGradient(x *[3]float64, fx float64, g, e *[3]float
 func gulfRDLBFGSCentralGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *gulfRDLBFGSCentralDifferences) {
 	noise := gulfRDLBFGSCentralNoiseLevel(x, fx, g)
 	for i := range e {
-		h := diffs.ratio[i] * gulfRDLBFGSCentralLarger(1, gulfRDLBFGSCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		h, oneSided := gulfRDLBFGSCentralCentralInterval(x, i, diffs)
+		h = gulfRDLBFGSCentralAbs(h)
+		switch {
+		case h == 0:
+			e[i] = 0 // fixed by equal bounds
+		case oneSided:
+			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+		default:
+			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		}
 	}
 }
 
@@ -733,6 +856,11 @@ func gulfRDLBFGSCentralRoundingFloor(x, g, e *[3]float64, diffs *gulfRDLBFGSCent
 // calibration, which gulfRDLBFGSCentralConfirmGradient has just made at x.
 func gulfRDLBFGSCentralDiagonalCurvature(x, g *[3]float64, diffs *gulfRDLBFGSCentralDifferences, h *[3]float64) {
 	*h = diffs.second
+}
+
+// gulfRDLBFGSCentralStationarity measures the gradient itself.
+func gulfRDLBFGSCentralStationarity(g, e, x *[3]float64, fx float64, b *gulfRDLBFGSCentralBox) (measure, floor float64) {
+	return gulfRDLBFGSCentralGradientMeasure(g, e, x, fx)
 }
 
 // gulfRDLBFGSCentralGradientMeasure is the scale-free measure
@@ -768,6 +896,14 @@ func gulfRDLBFGSCentralStepWithin(s, x *[3]float64, tol float64) bool {
 	return true
 }
 
+// gulfRDLBFGSCentralCurvaturePair: without bounds the pair is used as it is.
+func gulfRDLBFGSCentralCurvaturePair(s, y, x *[3]float64, b *gulfRDLBFGSCentralBox) {}
+
+// gulfRDLBFGSCentralSearchDirection is the direction's own.
+func gulfRDLBFGSCentralSearchDirection(dir *gulfRDLBFGSCentralDirection, x, g, d *[3]float64, b *gulfRDLBFGSCentralBox) {
+	dir.compute(g, d)
+}
+
 // gulfRDLBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func gulfRDLBFGSCentralTinyStep(x, d *[3]float64, tol float64) float64 {
@@ -795,7 +931,10 @@ func gulfRDLBFGSCentralTinyStep(x, d *[3]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (gulfRDLBFGSCentralStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -804,13 +943,17 @@ func gulfRDLBFGSCentralTinyStep(x, d *[3]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func gulfRDLBFGSCentralLineSearch(x *[3]float64, fx float64, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *gulfRDLBFGSCentralDifferences) gulfRDLBFGSCentralLineResult {
+func gulfRDLBFGSCentralLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *gulfRDLBFGSCentralDifferences) gulfRDLBFGSCentralLineResult {
 	low := gulfRDLBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high gulfRDLBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                                  // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend gulfRDLBFGSCentralRiseTrend // of the trials failing sufficient decrease
+	var trend gulfRDLBFGSCentralRiseTrend                         // of the trials failing sufficient decrease
+	limit := gulfRDLBFGSCentralStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < gulfRDLBFGSCentralStepTrials; trial++ {
 		if bracketed && gulfRDLBFGSCentralAbs(high.step-low.step) <= tiny {
@@ -820,12 +963,12 @@ func gulfRDLBFGSCentralLineSearch(x *[3]float64, fx float64, d *[3]float64, slop
 			if low.step == 0 {
 				return gulfRDLBFGSCentralLineResult{calls: calls, rising: trend.contradicts(), end: gulfRDLBFGSCentralTinyOrExhausted(gulfRDLBFGSCentralFinite(high.value))}
 			}
-			return gulfRDLBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return gulfRDLBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return gulfRDLBFGSCentralLineResult{calls: calls, end: gulfRDLBFGSCentralSearchOutOfBudget}
 		}
-		gulfRDLBFGSCentralMoveTo(xt, x, t, d)
+		gulfRDLBFGSCentralTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := gulfRDLBFGSCentralLinePoint{step: t, value: GulfRD(xt)}
 		calls++
 		previous := low
@@ -836,8 +979,7 @@ func gulfRDLBFGSCentralLineSearch(x *[3]float64, fx float64, d *[3]float64, slop
 			if calls+gulfRDLBFGSCentralDerivativeCost > budget {
 				return gulfRDLBFGSCentralLineResult{calls: calls, end: gulfRDLBFGSCentralSearchOutOfBudget}
 			}
-			gulfRDLBFGSCentralDerivative(xt, current.value, gt, diffs)
-			calls += gulfRDLBFGSCentralDerivativeCost
+			calls += gulfRDLBFGSCentralDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = gulfRDLBFGSCentralDot(gt, d), true
 			switch {
 			case !gulfRDLBFGSCentralFinite(current.slope):
@@ -848,18 +990,22 @@ func gulfRDLBFGSCentralLineSearch(x *[3]float64, fx float64, d *[3]float64, slop
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return gulfRDLBFGSCentralLineResult{step: t, value: current.value, calls: calls, gradient: true, end: gulfRDLBFGSCentralSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = gulfRDLBFGSCentralZoomTrial(&low, &high)
-		} else {
-			t = gulfRDLBFGSCentralExpandTrial(&previous, &current)
+		} else if t = gulfRDLBFGSCentralExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return gulfRDLBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return gulfRDLBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return gulfRDLBFGSCentralLineResult{calls: calls, rising: trend.contradicts(), end: gulfRDLBFGSCentralSearchExhausted}
 }
@@ -946,6 +1092,11 @@ func gulfRDLBFGSCentralFaithfulStep(x, xt, d *[3]float64, t float64) bool {
 	return true
 }
 
+// gulfRDLBFGSCentralStepCap: without bounds a step may be as long as the search wants.
+func gulfRDLBFGSCentralStepCap(x, d *[3]float64, tiny float64, b *gulfRDLBFGSCentralBox) float64 {
+	return math.Inf(1)
+}
+
 // gulfRDLBFGSCentralTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -970,10 +1121,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func gulfRDLBFGSCentralAcceptLow(x, d *[3]float64, low *gulfRDLBFGSCentralLinePoint, lowGradient *[3]float64, calls int, xt, gt *[3]float64) gulfRDLBFGSCentralLineResult {
-	gulfRDLBFGSCentralMoveTo(xt, x, low.step, d)
+func gulfRDLBFGSCentralAcceptLow(x, d *[3]float64, low *gulfRDLBFGSCentralLinePoint, lowGradient *[3]float64, calls int, xt, gt *[3]float64, diffs *gulfRDLBFGSCentralDifferences) gulfRDLBFGSCentralLineResult {
+	gulfRDLBFGSCentralTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return gulfRDLBFGSCentralLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: gulfRDLBFGSCentralSearchAccepted}
+}
+
+// gulfRDLBFGSCentralTrialPoint is x + t·d.
+func gulfRDLBFGSCentralTrialPoint(out, x *[3]float64, t float64, d *[3]float64, b *gulfRDLBFGSCentralBox) {
+	gulfRDLBFGSCentralMoveTo(out, x, t, d)
 }
 
 // gulfRDLBFGSCentralMoveTo sets out = x + t·d.

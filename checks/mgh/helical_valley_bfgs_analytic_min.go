@@ -88,6 +88,9 @@ func HelicalValleyBFGSAnalyticDefaultLimits() HelicalValleyBFGSAnalyticLimits {
 	}
 }
 
+// helicalValleyBFGSAnalyticBox is empty: mgh.toml sets no bounds on HelicalValleyBFGSAnalytic.
+type helicalValleyBFGSAnalyticBox struct{}
+
 // HelicalValleyBFGSAnalytic minimizes HelicalValley from x0, as mgh.toml specifies.
 //
 // Direction bfgs: BFGS quasi-Newton with a dense inverse-Hessian approximation (dim² numbers).
@@ -105,7 +108,7 @@ func HelicalValleyBFGSAnalytic(x0 [3]float64) HelicalValleyBFGSAnalyticResult {
 
 // HelicalValleyBFGSAnalyticWithLimits is HelicalValleyBFGSAnalytic with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func HelicalValleyBFGSAnalyticWithLimits(x0 [3]float64, limits HelicalValleyBFGSAnalyticLimits) HelicalValleyBFGSAnalyticResult {
-	out := helicalValleyBFGSAnalyticMinimize(x0, limits)
+	out := helicalValleyBFGSAnalyticMinimize(x0, limits, helicalValleyBFGSAnalyticBox{})
 	return HelicalValleyBFGSAnalyticResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func helicalValleyBFGSAnalyticMinimize(x0 [3]float64, lim HelicalValleyBFGSAnalyticLimits) helicalValleyBFGSAnalyticOutcome {
-	out := helicalValleyBFGSAnalyticOutcome{x: x0, status: HelicalValleyBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
+func helicalValleyBFGSAnalyticMinimize(x0 [3]float64, lim HelicalValleyBFGSAnalyticLimits, bounds helicalValleyBFGSAnalyticBox) helicalValleyBFGSAnalyticOutcome {
+	x := x0
+	helicalValleyBFGSAnalyticEnterBox(&x, &bounds)
+	out := helicalValleyBFGSAnalyticOutcome{x: x, status: HelicalValleyBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := HelicalValley(&x)
 	out.f, out.evaluations = fx, 1
 	if !helicalValleyBFGSAnalyticFinite(fx) || !helicalValleyBFGSAnalyticFiniteVec(&x) {
 		out.status = HelicalValleyBFGSAnalyticNonFiniteStart
 		return out
 	}
-	var diffs helicalValleyBFGSAnalyticDifferences
+	diffs := helicalValleyBFGSAnalyticDifferences{bounds: bounds}
 	calls, ok := helicalValleyBFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+helicalValleyBFGSAnalyticDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [3]float64
-	helicalValleyBFGSAnalyticDerivative(&x, fx, &g, &diffs)
-	out.evaluations += helicalValleyBFGSAnalyticDerivativeCost
+	out.evaluations += helicalValleyBFGSAnalyticDerivative(&x, fx, &g, &diffs)
 
 	if !helicalValleyBFGSAnalyticFiniteVec(&g) {
 		out.status = HelicalValleyBFGSAnalyticNonFiniteGradient
@@ -211,7 +214,7 @@ func helicalValleyBFGSAnalyticMinimize(x0 [3]float64, lim HelicalValleyBFGSAnaly
 		case !confirmed:
 			helicalValleyBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := helicalValleyBFGSAnalyticGradientMeasure(&g, &e, &x, fx)
+		measure, floor := helicalValleyBFGSAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, helicalValleyBFGSAnalyticLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func helicalValleyBFGSAnalyticMinimize(x0 [3]float64, lim HelicalValleyBFGSAnaly
 			if rises >= 8 {
 				return best.ending(HelicalValleyBFGSAnalyticDiverged, out.iterations, out.evaluations)
 			}
+			helicalValleyBFGSAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(HelicalValleyBFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		helicalValleyBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := helicalValleyBFGSAnalyticDot(&g, &d)
 		if !(now < 0) || !helicalValleyBFGSAnalyticFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			helicalValleyBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = helicalValleyBFGSAnalyticDot(&g, &d)
 		}
 		first := float64(helicalValleyBFGSAnalyticStepInitial)
@@ -267,7 +271,7 @@ func helicalValleyBFGSAnalyticMinimize(x0 [3]float64, lim HelicalValleyBFGSAnaly
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := helicalValleyBFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := helicalValleyBFGSAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := helicalValleyBFGSAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case helicalValleyBFGSAnalyticSearchOutOfBudget:
@@ -303,8 +307,7 @@ func helicalValleyBFGSAnalyticMinimize(x0 [3]float64, lim HelicalValleyBFGSAnaly
 				}
 				return best.ending(HelicalValleyBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			helicalValleyBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += helicalValleyBFGSAnalyticDerivativeCost
+			out.evaluations += helicalValleyBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		helicalValleyBFGSAnalyticDifference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o helicalValleyBFGSAnalyticOutcome) ending(end HelicalValleyBFGSAnalyticSt
 	return o
 }
 
+// helicalValleyBFGSAnalyticEnterBox: without bounds every start is inside.
+func helicalValleyBFGSAnalyticEnterBox(x *[3]float64, b *helicalValleyBFGSAnalyticBox) {}
+
 // helicalValleyBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func helicalValleyBFGSAnalyticFiniteVec(x *[3]float64) bool {
 	return true
 }
 
-// helicalValleyBFGSAnalyticDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// helicalValleyBFGSAnalyticDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type helicalValleyBFGSAnalyticDifferences struct {
 	ratio     [3]float64
 	curvature [3]float64
 	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see helicalValleyBFGSAnalyticRoundingFloor)
+	bounds    helicalValleyBFGSAnalyticBox
 }
 
 // helicalValleyBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
@@ -384,8 +392,9 @@ func helicalValleyBFGSAnalyticCalibrate(x *[3]float64, fx float64, diffs *helica
 }
 
 // helicalValleyBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func helicalValleyBFGSAnalyticDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *helicalValleyBFGSAnalyticDifferences) {
+func helicalValleyBFGSAnalyticDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *helicalValleyBFGSAnalyticDifferences) int {
 	HelicalValleyGrad(x, g)
+	return 0
 }
 
 // helicalValleyBFGSAnalyticDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
@@ -525,13 +534,13 @@ func helicalValleyBFGSAnalyticConfirmGradient(x *[3]float64, fx float64, g, e *[
 		wide.ratio[i] *= 2
 	}
 	var doubled [3]float64
-	helicalValleyBFGSAnalyticDerivative(x, fx, g, diffs)
-	helicalValleyBFGSAnalyticDerivative(x, fx, &doubled, &wide)
+	calls += helicalValleyBFGSAnalyticDerivative(x, fx, g, diffs)
+	calls += helicalValleyBFGSAnalyticDerivative(x, fx, &doubled, &wide)
 	helicalValleyBFGSAnalyticGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * helicalValleyBFGSAnalyticAbs(g[i]-doubled[i])
 	}
-	return calls + 2*helicalValleyBFGSAnalyticDerivativeCost, true
+	return calls, true
 }
 
 // helicalValleyBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
@@ -573,18 +582,60 @@ func helicalValleyBFGSAnalyticDiagonalCurvature(x, g *[3]float64, diffs *helical
 	var moved [3]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := helicalValleyBFGSAnalyticProbeStep(xi, helicalValleyBFGSAnalyticSquareRoot(helicalValleyBFGSAnalyticUnitRoundoff)*helicalValleyBFGSAnalyticLarger(1, helicalValleyBFGSAnalyticAbs(xi)))
-		probe[i] = up
-		HelicalValleyGrad(&probe, &moved)
-		h[i] = helicalValleyBFGSAnalyticAbs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := helicalValleyBFGSAnalyticCoordinateRange(i, diffs)
+		up, delta := helicalValleyBFGSAnalyticProbeStep(xi, helicalValleyBFGSAnalyticOneSide(xi, helicalValleyBFGSAnalyticSquareRoot(helicalValleyBFGSAnalyticUnitRoundoff)*helicalValleyBFGSAnalyticLarger(1, helicalValleyBFGSAnalyticAbs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			HelicalValleyGrad(&probe, &moved)
+			h[i] = helicalValleyBFGSAnalyticAbs(moved[i]-g[i]) / helicalValleyBFGSAnalyticAbs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// helicalValleyBFGSAnalyticProbeStep returns x_i moved by h, and the step actually representable.
-func helicalValleyBFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// helicalValleyBFGSAnalyticCoordinateRange: without bounds any probe is allowed.
+func helicalValleyBFGSAnalyticCoordinateRange(i int, diffs *helicalValleyBFGSAnalyticDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// helicalValleyBFGSAnalyticProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func helicalValleyBFGSAnalyticProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := helicalValleyBFGSAnalyticClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// helicalValleyBFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func helicalValleyBFGSAnalyticClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// helicalValleyBFGSAnalyticOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func helicalValleyBFGSAnalyticOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // helicalValleyBFGSAnalyticSquareRoot returns √v.
@@ -600,6 +651,11 @@ func helicalValleyBFGSAnalyticLarger(a, b float64) float64 {
 		return a
 	}
 	return b
+}
+
+// helicalValleyBFGSAnalyticStationarity measures the gradient itself.
+func helicalValleyBFGSAnalyticStationarity(g, e, x *[3]float64, fx float64, b *helicalValleyBFGSAnalyticBox) (measure, floor float64) {
+	return helicalValleyBFGSAnalyticGradientMeasure(g, e, x, fx)
 }
 
 // helicalValleyBFGSAnalyticGradientMeasure is the scale-free measure
@@ -635,6 +691,14 @@ func helicalValleyBFGSAnalyticStepWithin(s, x *[3]float64, tol float64) bool {
 	return true
 }
 
+// helicalValleyBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
+func helicalValleyBFGSAnalyticCurvaturePair(s, y, x *[3]float64, b *helicalValleyBFGSAnalyticBox) {}
+
+// helicalValleyBFGSAnalyticSearchDirection is the direction's own.
+func helicalValleyBFGSAnalyticSearchDirection(dir *helicalValleyBFGSAnalyticDirection, x, g, d *[3]float64, b *helicalValleyBFGSAnalyticBox) {
+	dir.compute(g, d)
+}
+
 // helicalValleyBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func helicalValleyBFGSAnalyticTinyStep(x, d *[3]float64, tol float64) float64 {
@@ -662,7 +726,10 @@ func helicalValleyBFGSAnalyticTinyStep(x, d *[3]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (helicalValleyBFGSAnalyticStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -671,13 +738,17 @@ func helicalValleyBFGSAnalyticTinyStep(x, d *[3]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func helicalValleyBFGSAnalyticLineSearch(x *[3]float64, fx float64, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *helicalValleyBFGSAnalyticDifferences) helicalValleyBFGSAnalyticLineResult {
+func helicalValleyBFGSAnalyticLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *helicalValleyBFGSAnalyticDifferences) helicalValleyBFGSAnalyticLineResult {
 	low := helicalValleyBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high helicalValleyBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                                         // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend helicalValleyBFGSAnalyticRiseTrend // of the trials failing sufficient decrease
+	var trend helicalValleyBFGSAnalyticRiseTrend                         // of the trials failing sufficient decrease
+	limit := helicalValleyBFGSAnalyticStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < helicalValleyBFGSAnalyticStepTrials; trial++ {
 		if bracketed && helicalValleyBFGSAnalyticAbs(high.step-low.step) <= tiny {
@@ -687,12 +758,12 @@ func helicalValleyBFGSAnalyticLineSearch(x *[3]float64, fx float64, d *[3]float6
 			if low.step == 0 {
 				return helicalValleyBFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: helicalValleyBFGSAnalyticTinyOrExhausted(helicalValleyBFGSAnalyticFinite(high.value))}
 			}
-			return helicalValleyBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return helicalValleyBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return helicalValleyBFGSAnalyticLineResult{calls: calls, end: helicalValleyBFGSAnalyticSearchOutOfBudget}
 		}
-		helicalValleyBFGSAnalyticMoveTo(xt, x, t, d)
+		helicalValleyBFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := helicalValleyBFGSAnalyticLinePoint{step: t, value: HelicalValley(xt)}
 		calls++
 		previous := low
@@ -703,8 +774,7 @@ func helicalValleyBFGSAnalyticLineSearch(x *[3]float64, fx float64, d *[3]float6
 			if calls+helicalValleyBFGSAnalyticDerivativeCost > budget {
 				return helicalValleyBFGSAnalyticLineResult{calls: calls, end: helicalValleyBFGSAnalyticSearchOutOfBudget}
 			}
-			helicalValleyBFGSAnalyticDerivative(xt, current.value, gt, diffs)
-			calls += helicalValleyBFGSAnalyticDerivativeCost
+			calls += helicalValleyBFGSAnalyticDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = helicalValleyBFGSAnalyticDot(gt, d), true
 			switch {
 			case !helicalValleyBFGSAnalyticFinite(current.slope):
@@ -715,18 +785,22 @@ func helicalValleyBFGSAnalyticLineSearch(x *[3]float64, fx float64, d *[3]float6
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return helicalValleyBFGSAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: helicalValleyBFGSAnalyticSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = helicalValleyBFGSAnalyticZoomTrial(&low, &high)
-		} else {
-			t = helicalValleyBFGSAnalyticExpandTrial(&previous, &current)
+		} else if t = helicalValleyBFGSAnalyticExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return helicalValleyBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return helicalValleyBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return helicalValleyBFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: helicalValleyBFGSAnalyticSearchExhausted}
 }
@@ -813,6 +887,11 @@ func helicalValleyBFGSAnalyticFaithfulStep(x, xt, d *[3]float64, t float64) bool
 	return true
 }
 
+// helicalValleyBFGSAnalyticStepCap: without bounds a step may be as long as the search wants.
+func helicalValleyBFGSAnalyticStepCap(x, d *[3]float64, tiny float64, b *helicalValleyBFGSAnalyticBox) float64 {
+	return math.Inf(1)
+}
+
 // helicalValleyBFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -837,10 +916,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func helicalValleyBFGSAnalyticAcceptLow(x, d *[3]float64, low *helicalValleyBFGSAnalyticLinePoint, lowGradient *[3]float64, calls int, xt, gt *[3]float64) helicalValleyBFGSAnalyticLineResult {
-	helicalValleyBFGSAnalyticMoveTo(xt, x, low.step, d)
+func helicalValleyBFGSAnalyticAcceptLow(x, d *[3]float64, low *helicalValleyBFGSAnalyticLinePoint, lowGradient *[3]float64, calls int, xt, gt *[3]float64, diffs *helicalValleyBFGSAnalyticDifferences) helicalValleyBFGSAnalyticLineResult {
+	helicalValleyBFGSAnalyticTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return helicalValleyBFGSAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: helicalValleyBFGSAnalyticSearchAccepted}
+}
+
+// helicalValleyBFGSAnalyticTrialPoint is x + t·d.
+func helicalValleyBFGSAnalyticTrialPoint(out, x *[3]float64, t float64, d *[3]float64, b *helicalValleyBFGSAnalyticBox) {
+	helicalValleyBFGSAnalyticMoveTo(out, x, t, d)
 }
 
 // helicalValleyBFGSAnalyticMoveTo sets out = x + t·d.
@@ -895,21 +979,6 @@ func helicalValleyBFGSAnalyticModelMinimizer(a, b *helicalValleyBFGSAnalyticLine
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, helicalValleyBFGSAnalyticFinite(t)
-}
-
-// helicalValleyBFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func helicalValleyBFGSAnalyticClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // helicalValleyBFGSAnalyticExpandTrial picks a larger trial after current met sufficient decrease

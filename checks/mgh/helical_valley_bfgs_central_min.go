@@ -88,6 +88,9 @@ func HelicalValleyBFGSCentralDefaultLimits() HelicalValleyBFGSCentralLimits {
 	}
 }
 
+// helicalValleyBFGSCentralBox is empty: mgh.toml sets no bounds on HelicalValleyBFGSCentral.
+type helicalValleyBFGSCentralBox struct{}
+
 // HelicalValleyBFGSCentral minimizes HelicalValley from x0, as mgh.toml specifies.
 //
 // Direction bfgs: BFGS quasi-Newton with a dense inverse-Hessian approximation (dim² numbers).
@@ -105,7 +108,7 @@ func HelicalValleyBFGSCentral(x0 [3]float64) HelicalValleyBFGSCentralResult {
 
 // HelicalValleyBFGSCentralWithLimits is HelicalValleyBFGSCentral with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func HelicalValleyBFGSCentralWithLimits(x0 [3]float64, limits HelicalValleyBFGSCentralLimits) HelicalValleyBFGSCentralResult {
-	out := helicalValleyBFGSCentralMinimize(x0, limits)
+	out := helicalValleyBFGSCentralMinimize(x0, limits, helicalValleyBFGSCentralBox{})
 	return HelicalValleyBFGSCentralResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func helicalValleyBFGSCentralMinimize(x0 [3]float64, lim HelicalValleyBFGSCentralLimits) helicalValleyBFGSCentralOutcome {
-	out := helicalValleyBFGSCentralOutcome{x: x0, status: HelicalValleyBFGSCentralOutOfEvaluations, gradient: math.NaN()}
+func helicalValleyBFGSCentralMinimize(x0 [3]float64, lim HelicalValleyBFGSCentralLimits, bounds helicalValleyBFGSCentralBox) helicalValleyBFGSCentralOutcome {
+	x := x0
+	helicalValleyBFGSCentralEnterBox(&x, &bounds)
+	out := helicalValleyBFGSCentralOutcome{x: x, status: HelicalValleyBFGSCentralOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := HelicalValley(&x)
 	out.f, out.evaluations = fx, 1
 	if !helicalValleyBFGSCentralFinite(fx) || !helicalValleyBFGSCentralFiniteVec(&x) {
 		out.status = HelicalValleyBFGSCentralNonFiniteStart
 		return out
 	}
-	var diffs helicalValleyBFGSCentralDifferences
+	diffs := helicalValleyBFGSCentralDifferences{bounds: bounds}
 	calls, ok := helicalValleyBFGSCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+helicalValleyBFGSCentralDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [3]float64
-	helicalValleyBFGSCentralDerivative(&x, fx, &g, &diffs)
-	out.evaluations += helicalValleyBFGSCentralDerivativeCost
+	out.evaluations += helicalValleyBFGSCentralDerivative(&x, fx, &g, &diffs)
 
 	if !helicalValleyBFGSCentralFiniteVec(&g) {
 		out.status = HelicalValleyBFGSCentralNonFiniteGradient
@@ -211,7 +214,7 @@ func helicalValleyBFGSCentralMinimize(x0 [3]float64, lim HelicalValleyBFGSCentra
 		case !confirmed:
 			helicalValleyBFGSCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := helicalValleyBFGSCentralGradientMeasure(&g, &e, &x, fx)
+		measure, floor := helicalValleyBFGSCentralStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, helicalValleyBFGSCentralLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func helicalValleyBFGSCentralMinimize(x0 [3]float64, lim HelicalValleyBFGSCentra
 			if rises >= 8 {
 				return best.ending(HelicalValleyBFGSCentralDiverged, out.iterations, out.evaluations)
 			}
+			helicalValleyBFGSCentralCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(HelicalValleyBFGSCentralOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		helicalValleyBFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := helicalValleyBFGSCentralDot(&g, &d)
 		if !(now < 0) || !helicalValleyBFGSCentralFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			helicalValleyBFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = helicalValleyBFGSCentralDot(&g, &d)
 		}
 		first := float64(helicalValleyBFGSCentralStepInitial)
@@ -267,7 +271,7 @@ func helicalValleyBFGSCentralMinimize(x0 [3]float64, lim HelicalValleyBFGSCentra
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := helicalValleyBFGSCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := helicalValleyBFGSCentralLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := helicalValleyBFGSCentralLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case helicalValleyBFGSCentralSearchOutOfBudget:
@@ -303,8 +307,7 @@ func helicalValleyBFGSCentralMinimize(x0 [3]float64, lim HelicalValleyBFGSCentra
 				}
 				return best.ending(HelicalValleyBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			helicalValleyBFGSCentralDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += helicalValleyBFGSCentralDerivativeCost
+			out.evaluations += helicalValleyBFGSCentralDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		helicalValleyBFGSCentralDifference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o helicalValleyBFGSCentralOutcome) ending(end HelicalValleyBFGSCentralStat
 	return o
 }
 
+// helicalValleyBFGSCentralEnterBox: without bounds every start is inside.
+func helicalValleyBFGSCentralEnterBox(x *[3]float64, b *helicalValleyBFGSCentralBox) {}
+
 // helicalValleyBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func helicalValleyBFGSCentralFiniteVec(x *[3]float64) bool {
 	return true
 }
 
-// helicalValleyBFGSCentralDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// helicalValleyBFGSCentralDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type helicalValleyBFGSCentralDifferences struct {
 	ratio     [3]float64
 	curvature [3]float64
 	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see helicalValleyBFGSCentralRoundingFloor)
+	bounds    helicalValleyBFGSCentralBox
 }
 
 // helicalValleyBFGSCentralCalibrate chooses each central-difference interval from the
@@ -397,19 +405,45 @@ func helicalValleyBFGSCentralCalibrate(x *[3]float64, fx float64, diffs *helical
 	var slope [3]float64
 	scale := helicalValleyBFGSCentralAbs(fx)
 	quarter := helicalValleyBFGSCentralSquareRoot(helicalValleyBFGSCentralSquareRoot(helicalValleyBFGSCentralUnitRoundoff)) // u^(1/4)
+	calls := 0
 	for i := range probe {
-		if 4*(i+1) > budget {
-			return 4 * i, false
+		if calls+4 > budget {
+			return calls, false
 		}
 		xi := probe[i]
 		bar := quarter * helicalValleyBFGSCentralLarger(1, helicalValleyBFGSCentralAbs(xi))
+		lower, upper := helicalValleyBFGSCentralCoordinateRange(i, diffs)
+		if xi+2*bar > upper || xi-2*bar < lower {
+			// At a bound: three probes on the side with room, at h, 2h
+			// and 3h, for f‴ ≈ (f(3h) − 3f(2h) + 3f(h) − f(0))/h³ (the
+			// third forward difference).
+			h := helicalValleyBFGSCentralOneSide(xi, bar, 3, lower, upper)
+			if h == 0 {
+				continue // fixed by equal bounds
+			}
+			var f [3]float64
+			for k := range f {
+				probe[i], _ = helicalValleyBFGSCentralProbeStep(xi, float64(k+1)*h, lower, upper)
+				f[k] = HelicalValley(&probe)
+				scale = helicalValleyBFGSCentralLarger(scale, helicalValleyBFGSCentralMagnitude(f[k]))
+			}
+			probe[i] = xi
+			calls += 3
+			if helicalValleyBFGSCentralFinite(f[0]) && helicalValleyBFGSCentralFinite(f[1]) && helicalValleyBFGSCentralFinite(f[2]) {
+				diffs.curvature[i] = helicalValleyBFGSCentralAbs(f[2]-3*f[1]+3*f[0]-fx) / helicalValleyBFGSCentralAbs(h*h*h)
+				diffs.second[i] = helicalValleyBFGSCentralAbs(fx-2*f[0]+f[1]) / (h * h)
+				slope[i] = (-3*fx + 4*f[0] - f[1]) / (2 * h)
+			}
+			continue
+		}
 		var f [4]float64
 		for k, m := range [4]float64{2, 1, -1, -2} {
-			probe[i], _ = helicalValleyBFGSCentralProbeStep(xi, m*bar)
+			probe[i], _ = helicalValleyBFGSCentralProbeStep(xi, m*bar, lower, upper)
 			f[k] = HelicalValley(&probe)
 			scale = helicalValleyBFGSCentralLarger(scale, helicalValleyBFGSCentralMagnitude(f[k]))
 		}
 		probe[i] = xi
+		calls += 4
 		if helicalValleyBFGSCentralFinite(f[0]) && helicalValleyBFGSCentralFinite(f[1]) && helicalValleyBFGSCentralFinite(f[2]) && helicalValleyBFGSCentralFinite(f[3]) {
 			diffs.curvature[i] = helicalValleyBFGSCentralAbs(f[0]-2*f[1]+2*f[2]-f[3]) / (2 * bar * bar * bar)
 			diffs.second[i] = helicalValleyBFGSCentralAbs(f[1]-2*fx+f[2]) / (bar * bar)
@@ -428,7 +462,7 @@ func helicalValleyBFGSCentralCalibrate(x *[3]float64, fx float64, diffs *helical
 		diffs.ratio[i] = helicalValleyBFGSCentralClampBetween(h, 64*helicalValleyBFGSCentralUnitRoundoff*s, bar) / s
 		diffs.curvature[i] = third
 	}
-	return 4 * len(probe), true
+	return calls, true
 }
 
 // helicalValleyBFGSCentralAbs returns |v|.
@@ -454,10 +488,48 @@ func helicalValleyBFGSCentralLarger(a, b float64) float64 {
 	return b
 }
 
-// helicalValleyBFGSCentralProbeStep returns x_i moved by h, and the step actually representable.
-func helicalValleyBFGSCentralProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// helicalValleyBFGSCentralCoordinateRange: without bounds any probe is allowed.
+func helicalValleyBFGSCentralCoordinateRange(i int, diffs *helicalValleyBFGSCentralDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// helicalValleyBFGSCentralOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func helicalValleyBFGSCentralOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
+}
+
+// helicalValleyBFGSCentralProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func helicalValleyBFGSCentralProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := helicalValleyBFGSCentralClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// helicalValleyBFGSCentralClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func helicalValleyBFGSCentralClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
 }
 
 // helicalValleyBFGSCentralMagnitude is |v| for a finite v and 0 otherwise: a probe that fell
@@ -493,42 +565,85 @@ func helicalValleyBFGSCentralCubeRoot(v float64) float64 {
 	return math.Cbrt(v)
 }
 
-// helicalValleyBFGSCentralClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func helicalValleyBFGSCentralClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
-}
-
 // helicalValleyBFGSCentralDerivative approximates the gradient by central differences,
 //
 //	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),
 //
 // with the intervals helicalValleyBFGSCentralCalibrate chose, h_i = ratio_i·max(1, |x_i|)
-// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls; fx is
-// not needed.
-func helicalValleyBFGSCentralDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *helicalValleyBFGSCentralDifferences) {
+// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls. Where
+// a bound leaves no room on one side, the three-point endpoint formula on
+// the other side takes its place at the same cost (see parabola); a
+// variable fixed by equal bounds costs nothing and gets 0.
+func helicalValleyBFGSCentralDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *helicalValleyBFGSCentralDifferences) int {
 	probe := *x
+	calls := 0
 	for i := range probe {
 		xi := probe[i]
-		h := diffs.ratio[i] * helicalValleyBFGSCentralLarger(1, helicalValleyBFGSCentralAbs(xi))
-		up, _ := helicalValleyBFGSCentralProbeStep(xi, h)
-		down, _ := helicalValleyBFGSCentralProbeStep(xi, -h)
-		probe[i] = up
-		fUp := HelicalValley(&probe)
-		probe[i] = down
-		fDown := HelicalValley(&probe)
-		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
-		probe[i] = xi
+		h, oneSided := helicalValleyBFGSCentralCentralInterval(x, i, diffs)
+		lower, upper := helicalValleyBFGSCentralCoordinateRange(i, diffs)
+		switch {
+		case h == 0:
+			g[i] = 0 // fixed by equal bounds
+			continue
+		case oneSided:
+			g[i], _, _ = helicalValleyBFGSCentralSidedProbes(&probe, i, fx, h, lower, upper) // the three-point endpoint formula
+		default:
+			up, _ := helicalValleyBFGSCentralProbeStep(xi, h, lower, upper)
+			down, _ := helicalValleyBFGSCentralProbeStep(xi, -h, lower, upper)
+			probe[i] = up
+			fUp := HelicalValley(&probe)
+			probe[i] = down
+			fDown := HelicalValley(&probe)
+			g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+			probe[i] = xi
+		}
+		calls += 2
 	}
+	return calls
+}
+
+// helicalValleyBFGSCentralCentralInterval is the interval of coordinate i at x, ratio_i·max(1,
+// |x_i|), and whether the box leaves room for probes on both sides; when
+// it does not, the interval is signed towards the side with room for
+// probes at h and 2h, and shortened where the box is narrower than that
+// (see helicalValleyBFGSCentralOneSide).
+func helicalValleyBFGSCentralCentralInterval(x *[3]float64, i int, diffs *helicalValleyBFGSCentralDifferences) (h float64, oneSided bool) {
+	lower, upper := helicalValleyBFGSCentralCoordinateRange(i, diffs)
+	h = diffs.ratio[i] * helicalValleyBFGSCentralLarger(1, helicalValleyBFGSCentralAbs(x[i]))
+	if x[i]+h <= upper && x[i]-h >= lower {
+		return h, false
+	}
+	return helicalValleyBFGSCentralOneSide(x[i], h, 2, lower, upper), true
+}
+
+// helicalValleyBFGSCentralSidedProbes evaluates f at x moved along coordinate i by h and by 2h,
+// kept within [lower, upper], and returns the slope and second derivative
+// of the parabola through them and (x, fx) (see parabola), and the larger
+// magnitude of the two values.
+func helicalValleyBFGSCentralSidedProbes(probe *[3]float64, i int, fx, h, lower, upper float64) (slope, second, size float64) {
+	xi := probe[i]
+	near, a := helicalValleyBFGSCentralProbeStep(xi, h, lower, upper)
+	far, b := helicalValleyBFGSCentralProbeStep(xi, 2*h, lower, upper)
+	probe[i] = near
+	fNear := HelicalValley(probe)
+	probe[i] = far
+	fFar := HelicalValley(probe)
+	probe[i] = xi
+	slope, second = helicalValleyBFGSCentralParabola(fx, a, fNear, b, fFar)
+	return slope, second, helicalValleyBFGSCentralLarger(helicalValleyBFGSCentralMagnitude(fNear), helicalValleyBFGSCentralMagnitude(fFar))
+}
+
+// helicalValleyBFGSCentralParabola returns the first and second derivatives at 0 of the parabola
+// through (0, f0), (a, fa) and (b, fb), for probes on one side of a bound.
+// With b = 2a they are the three-point endpoint formulas
+// f′ ≈ (−3f0 + 4fa − fb)/(2a), error a²|f‴|/3, and
+// f″ ≈ (f0 − 2fa + fb)/a² (Burden & Faires, Numerical Analysis, §4.1
+// and §4.1's second-derivative formulas, from memory); written for unequal
+// a and b, so that the representable steps can be used.
+func helicalValleyBFGSCentralParabola(f0, a, fa, b, fb float64) (slope, second float64) {
+	slope = -(a+b)/(a*b)*f0 + b/(a*(b-a))*fa - a/(b*(b-a))*fb
+	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
+	return slope, second
 }
 
 // helicalValleyBFGSCentralDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
@@ -668,13 +783,13 @@ func helicalValleyBFGSCentralConfirmGradient(x *[3]float64, fx float64, g, e *[3
 		wide.ratio[i] *= 2
 	}
 	var doubled [3]float64
-	helicalValleyBFGSCentralDerivative(x, fx, g, diffs)
-	helicalValleyBFGSCentralDerivative(x, fx, &doubled, &wide)
+	calls += helicalValleyBFGSCentralDerivative(x, fx, g, diffs)
+	calls += helicalValleyBFGSCentralDerivative(x, fx, &doubled, &wide)
 	helicalValleyBFGSCentralGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * helicalValleyBFGSCentralAbs(g[i]-doubled[i])
 	}
-	return calls + 2*helicalValleyBFGSCentralDerivativeCost, true
+	return calls, true
 }
 
 // helicalValleyBFGSCentralGradientError bounds each central difference's error by twice its
@@ -684,8 +799,16 @@ func helicalValleyBFGSCentralConfirmGradient(x *[3]float64, fx float64, g, e *[3
 func helicalValleyBFGSCentralGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *helicalValleyBFGSCentralDifferences) {
 	noise := helicalValleyBFGSCentralNoiseLevel(x, fx, g)
 	for i := range e {
-		h := diffs.ratio[i] * helicalValleyBFGSCentralLarger(1, helicalValleyBFGSCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		h, oneSided := helicalValleyBFGSCentralCentralInterval(x, i, diffs)
+		h = helicalValleyBFGSCentralAbs(h)
+		switch {
+		case h == 0:
+			e[i] = 0 // fixed by equal bounds
+		case oneSided:
+			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+		default:
+			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		}
 	}
 }
 
@@ -707,6 +830,11 @@ func helicalValleyBFGSCentralRoundingFloor(x, g, e *[3]float64, diffs *helicalVa
 // calibration, which helicalValleyBFGSCentralConfirmGradient has just made at x.
 func helicalValleyBFGSCentralDiagonalCurvature(x, g *[3]float64, diffs *helicalValleyBFGSCentralDifferences, h *[3]float64) {
 	*h = diffs.second
+}
+
+// helicalValleyBFGSCentralStationarity measures the gradient itself.
+func helicalValleyBFGSCentralStationarity(g, e, x *[3]float64, fx float64, b *helicalValleyBFGSCentralBox) (measure, floor float64) {
+	return helicalValleyBFGSCentralGradientMeasure(g, e, x, fx)
 }
 
 // helicalValleyBFGSCentralGradientMeasure is the scale-free measure
@@ -742,6 +870,14 @@ func helicalValleyBFGSCentralStepWithin(s, x *[3]float64, tol float64) bool {
 	return true
 }
 
+// helicalValleyBFGSCentralCurvaturePair: without bounds the pair is used as it is.
+func helicalValleyBFGSCentralCurvaturePair(s, y, x *[3]float64, b *helicalValleyBFGSCentralBox) {}
+
+// helicalValleyBFGSCentralSearchDirection is the direction's own.
+func helicalValleyBFGSCentralSearchDirection(dir *helicalValleyBFGSCentralDirection, x, g, d *[3]float64, b *helicalValleyBFGSCentralBox) {
+	dir.compute(g, d)
+}
+
 // helicalValleyBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func helicalValleyBFGSCentralTinyStep(x, d *[3]float64, tol float64) float64 {
@@ -769,7 +905,10 @@ func helicalValleyBFGSCentralTinyStep(x, d *[3]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (helicalValleyBFGSCentralStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -778,13 +917,17 @@ func helicalValleyBFGSCentralTinyStep(x, d *[3]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func helicalValleyBFGSCentralLineSearch(x *[3]float64, fx float64, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *helicalValleyBFGSCentralDifferences) helicalValleyBFGSCentralLineResult {
+func helicalValleyBFGSCentralLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *helicalValleyBFGSCentralDifferences) helicalValleyBFGSCentralLineResult {
 	low := helicalValleyBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high helicalValleyBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                                        // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend helicalValleyBFGSCentralRiseTrend // of the trials failing sufficient decrease
+	var trend helicalValleyBFGSCentralRiseTrend                         // of the trials failing sufficient decrease
+	limit := helicalValleyBFGSCentralStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < helicalValleyBFGSCentralStepTrials; trial++ {
 		if bracketed && helicalValleyBFGSCentralAbs(high.step-low.step) <= tiny {
@@ -794,12 +937,12 @@ func helicalValleyBFGSCentralLineSearch(x *[3]float64, fx float64, d *[3]float64
 			if low.step == 0 {
 				return helicalValleyBFGSCentralLineResult{calls: calls, rising: trend.contradicts(), end: helicalValleyBFGSCentralTinyOrExhausted(helicalValleyBFGSCentralFinite(high.value))}
 			}
-			return helicalValleyBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return helicalValleyBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return helicalValleyBFGSCentralLineResult{calls: calls, end: helicalValleyBFGSCentralSearchOutOfBudget}
 		}
-		helicalValleyBFGSCentralMoveTo(xt, x, t, d)
+		helicalValleyBFGSCentralTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := helicalValleyBFGSCentralLinePoint{step: t, value: HelicalValley(xt)}
 		calls++
 		previous := low
@@ -810,8 +953,7 @@ func helicalValleyBFGSCentralLineSearch(x *[3]float64, fx float64, d *[3]float64
 			if calls+helicalValleyBFGSCentralDerivativeCost > budget {
 				return helicalValleyBFGSCentralLineResult{calls: calls, end: helicalValleyBFGSCentralSearchOutOfBudget}
 			}
-			helicalValleyBFGSCentralDerivative(xt, current.value, gt, diffs)
-			calls += helicalValleyBFGSCentralDerivativeCost
+			calls += helicalValleyBFGSCentralDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = helicalValleyBFGSCentralDot(gt, d), true
 			switch {
 			case !helicalValleyBFGSCentralFinite(current.slope):
@@ -822,18 +964,22 @@ func helicalValleyBFGSCentralLineSearch(x *[3]float64, fx float64, d *[3]float64
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return helicalValleyBFGSCentralLineResult{step: t, value: current.value, calls: calls, gradient: true, end: helicalValleyBFGSCentralSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = helicalValleyBFGSCentralZoomTrial(&low, &high)
-		} else {
-			t = helicalValleyBFGSCentralExpandTrial(&previous, &current)
+		} else if t = helicalValleyBFGSCentralExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return helicalValleyBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return helicalValleyBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return helicalValleyBFGSCentralLineResult{calls: calls, rising: trend.contradicts(), end: helicalValleyBFGSCentralSearchExhausted}
 }
@@ -920,6 +1066,11 @@ func helicalValleyBFGSCentralFaithfulStep(x, xt, d *[3]float64, t float64) bool 
 	return true
 }
 
+// helicalValleyBFGSCentralStepCap: without bounds a step may be as long as the search wants.
+func helicalValleyBFGSCentralStepCap(x, d *[3]float64, tiny float64, b *helicalValleyBFGSCentralBox) float64 {
+	return math.Inf(1)
+}
+
 // helicalValleyBFGSCentralTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -944,10 +1095,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func helicalValleyBFGSCentralAcceptLow(x, d *[3]float64, low *helicalValleyBFGSCentralLinePoint, lowGradient *[3]float64, calls int, xt, gt *[3]float64) helicalValleyBFGSCentralLineResult {
-	helicalValleyBFGSCentralMoveTo(xt, x, low.step, d)
+func helicalValleyBFGSCentralAcceptLow(x, d *[3]float64, low *helicalValleyBFGSCentralLinePoint, lowGradient *[3]float64, calls int, xt, gt *[3]float64, diffs *helicalValleyBFGSCentralDifferences) helicalValleyBFGSCentralLineResult {
+	helicalValleyBFGSCentralTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return helicalValleyBFGSCentralLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: helicalValleyBFGSCentralSearchAccepted}
+}
+
+// helicalValleyBFGSCentralTrialPoint is x + t·d.
+func helicalValleyBFGSCentralTrialPoint(out, x *[3]float64, t float64, d *[3]float64, b *helicalValleyBFGSCentralBox) {
+	helicalValleyBFGSCentralMoveTo(out, x, t, d)
 }
 
 // helicalValleyBFGSCentralMoveTo sets out = x + t·d.

@@ -88,6 +88,9 @@ func HelicalValleyCGAnalyticDefaultLimits() HelicalValleyCGAnalyticLimits {
 	}
 }
 
+// helicalValleyCGAnalyticBox is empty: mgh.toml sets no bounds on HelicalValleyCGAnalytic.
+type helicalValleyCGAnalyticBox struct{}
+
 // HelicalValleyCGAnalytic minimizes HelicalValley from x0, as mgh.toml specifies.
 //
 // Direction cg: nonlinear conjugate gradients, Polak–Ribière clipped at zero (PR+), restarted every dim steps.
@@ -105,7 +108,7 @@ func HelicalValleyCGAnalytic(x0 [3]float64) HelicalValleyCGAnalyticResult {
 
 // HelicalValleyCGAnalyticWithLimits is HelicalValleyCGAnalytic with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func HelicalValleyCGAnalyticWithLimits(x0 [3]float64, limits HelicalValleyCGAnalyticLimits) HelicalValleyCGAnalyticResult {
-	out := helicalValleyCGAnalyticMinimize(x0, limits)
+	out := helicalValleyCGAnalyticMinimize(x0, limits, helicalValleyCGAnalyticBox{})
 	return HelicalValleyCGAnalyticResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func helicalValleyCGAnalyticMinimize(x0 [3]float64, lim HelicalValleyCGAnalyticLimits) helicalValleyCGAnalyticOutcome {
-	out := helicalValleyCGAnalyticOutcome{x: x0, status: HelicalValleyCGAnalyticOutOfEvaluations, gradient: math.NaN()}
+func helicalValleyCGAnalyticMinimize(x0 [3]float64, lim HelicalValleyCGAnalyticLimits, bounds helicalValleyCGAnalyticBox) helicalValleyCGAnalyticOutcome {
+	x := x0
+	helicalValleyCGAnalyticEnterBox(&x, &bounds)
+	out := helicalValleyCGAnalyticOutcome{x: x, status: HelicalValleyCGAnalyticOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := HelicalValley(&x)
 	out.f, out.evaluations = fx, 1
 	if !helicalValleyCGAnalyticFinite(fx) || !helicalValleyCGAnalyticFiniteVec(&x) {
 		out.status = HelicalValleyCGAnalyticNonFiniteStart
 		return out
 	}
-	var diffs helicalValleyCGAnalyticDifferences
+	diffs := helicalValleyCGAnalyticDifferences{bounds: bounds}
 	calls, ok := helicalValleyCGAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+helicalValleyCGAnalyticDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [3]float64
-	helicalValleyCGAnalyticDerivative(&x, fx, &g, &diffs)
-	out.evaluations += helicalValleyCGAnalyticDerivativeCost
+	out.evaluations += helicalValleyCGAnalyticDerivative(&x, fx, &g, &diffs)
 
 	if !helicalValleyCGAnalyticFiniteVec(&g) {
 		out.status = HelicalValleyCGAnalyticNonFiniteGradient
@@ -211,7 +214,7 @@ func helicalValleyCGAnalyticMinimize(x0 [3]float64, lim HelicalValleyCGAnalyticL
 		case !confirmed:
 			helicalValleyCGAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := helicalValleyCGAnalyticGradientMeasure(&g, &e, &x, fx)
+		measure, floor := helicalValleyCGAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, helicalValleyCGAnalyticLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func helicalValleyCGAnalyticMinimize(x0 [3]float64, lim HelicalValleyCGAnalyticL
 			if rises >= 8 {
 				return best.ending(HelicalValleyCGAnalyticDiverged, out.iterations, out.evaluations)
 			}
+			helicalValleyCGAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(HelicalValleyCGAnalyticOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		helicalValleyCGAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := helicalValleyCGAnalyticDot(&g, &d)
 		if !(now < 0) || !helicalValleyCGAnalyticFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			helicalValleyCGAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = helicalValleyCGAnalyticDot(&g, &d)
 		}
 		first := float64(helicalValleyCGAnalyticStepInitial)
@@ -267,7 +271,7 @@ func helicalValleyCGAnalyticMinimize(x0 [3]float64, lim HelicalValleyCGAnalyticL
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := helicalValleyCGAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := helicalValleyCGAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := helicalValleyCGAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case helicalValleyCGAnalyticSearchOutOfBudget:
@@ -303,8 +307,7 @@ func helicalValleyCGAnalyticMinimize(x0 [3]float64, lim HelicalValleyCGAnalyticL
 				}
 				return best.ending(HelicalValleyCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			helicalValleyCGAnalyticDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += helicalValleyCGAnalyticDerivativeCost
+			out.evaluations += helicalValleyCGAnalyticDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		helicalValleyCGAnalyticDifference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o helicalValleyCGAnalyticOutcome) ending(end HelicalValleyCGAnalyticStatus
 	return o
 }
 
+// helicalValleyCGAnalyticEnterBox: without bounds every start is inside.
+func helicalValleyCGAnalyticEnterBox(x *[3]float64, b *helicalValleyCGAnalyticBox) {}
+
 // helicalValleyCGAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func helicalValleyCGAnalyticFiniteVec(x *[3]float64) bool {
 	return true
 }
 
-// helicalValleyCGAnalyticDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// helicalValleyCGAnalyticDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type helicalValleyCGAnalyticDifferences struct {
 	ratio     [3]float64
 	curvature [3]float64
 	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see helicalValleyCGAnalyticRoundingFloor)
+	bounds    helicalValleyCGAnalyticBox
 }
 
 // helicalValleyCGAnalyticCalibrate: an analytic gradient needs no intervals.
@@ -384,8 +392,9 @@ func helicalValleyCGAnalyticCalibrate(x *[3]float64, fx float64, diffs *helicalV
 }
 
 // helicalValleyCGAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func helicalValleyCGAnalyticDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *helicalValleyCGAnalyticDifferences) {
+func helicalValleyCGAnalyticDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *helicalValleyCGAnalyticDifferences) int {
 	HelicalValleyGrad(x, g)
+	return 0
 }
 
 // helicalValleyCGAnalyticDirection is nonlinear conjugate gradients with the Polak–Ribière
@@ -517,13 +526,13 @@ func helicalValleyCGAnalyticConfirmGradient(x *[3]float64, fx float64, g, e *[3]
 		wide.ratio[i] *= 2
 	}
 	var doubled [3]float64
-	helicalValleyCGAnalyticDerivative(x, fx, g, diffs)
-	helicalValleyCGAnalyticDerivative(x, fx, &doubled, &wide)
+	calls += helicalValleyCGAnalyticDerivative(x, fx, g, diffs)
+	calls += helicalValleyCGAnalyticDerivative(x, fx, &doubled, &wide)
 	helicalValleyCGAnalyticGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * helicalValleyCGAnalyticAbs(g[i]-doubled[i])
 	}
-	return calls + 2*helicalValleyCGAnalyticDerivativeCost, true
+	return calls, true
 }
 
 // helicalValleyCGAnalyticGradientError: the analytic gradient is taken as exact; its error is
@@ -565,23 +574,70 @@ func helicalValleyCGAnalyticDiagonalCurvature(x, g *[3]float64, diffs *helicalVa
 	var moved [3]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := helicalValleyCGAnalyticProbeStep(xi, helicalValleyCGAnalyticSquareRoot(helicalValleyCGAnalyticUnitRoundoff)*helicalValleyCGAnalyticLarger(1, helicalValleyCGAnalyticAbs(xi)))
-		probe[i] = up
-		HelicalValleyGrad(&probe, &moved)
-		h[i] = helicalValleyCGAnalyticAbs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := helicalValleyCGAnalyticCoordinateRange(i, diffs)
+		up, delta := helicalValleyCGAnalyticProbeStep(xi, helicalValleyCGAnalyticOneSide(xi, helicalValleyCGAnalyticSquareRoot(helicalValleyCGAnalyticUnitRoundoff)*helicalValleyCGAnalyticLarger(1, helicalValleyCGAnalyticAbs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			HelicalValleyGrad(&probe, &moved)
+			h[i] = helicalValleyCGAnalyticAbs(moved[i]-g[i]) / helicalValleyCGAnalyticAbs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// helicalValleyCGAnalyticProbeStep returns x_i moved by h, and the step actually representable.
-func helicalValleyCGAnalyticProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// helicalValleyCGAnalyticCoordinateRange: without bounds any probe is allowed.
+func helicalValleyCGAnalyticCoordinateRange(i int, diffs *helicalValleyCGAnalyticDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// helicalValleyCGAnalyticProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func helicalValleyCGAnalyticProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := helicalValleyCGAnalyticClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// helicalValleyCGAnalyticClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func helicalValleyCGAnalyticClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// helicalValleyCGAnalyticOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func helicalValleyCGAnalyticOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // helicalValleyCGAnalyticSquareRoot returns √v.
 func helicalValleyCGAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// helicalValleyCGAnalyticStationarity measures the gradient itself.
+func helicalValleyCGAnalyticStationarity(g, e, x *[3]float64, fx float64, b *helicalValleyCGAnalyticBox) (measure, floor float64) {
+	return helicalValleyCGAnalyticGradientMeasure(g, e, x, fx)
 }
 
 // helicalValleyCGAnalyticGradientMeasure is the scale-free measure
@@ -617,6 +673,14 @@ func helicalValleyCGAnalyticStepWithin(s, x *[3]float64, tol float64) bool {
 	return true
 }
 
+// helicalValleyCGAnalyticCurvaturePair: without bounds the pair is used as it is.
+func helicalValleyCGAnalyticCurvaturePair(s, y, x *[3]float64, b *helicalValleyCGAnalyticBox) {}
+
+// helicalValleyCGAnalyticSearchDirection is the direction's own.
+func helicalValleyCGAnalyticSearchDirection(dir *helicalValleyCGAnalyticDirection, x, g, d *[3]float64, b *helicalValleyCGAnalyticBox) {
+	dir.compute(g, d)
+}
+
 // helicalValleyCGAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func helicalValleyCGAnalyticTinyStep(x, d *[3]float64, tol float64) float64 {
@@ -644,7 +708,10 @@ func helicalValleyCGAnalyticTinyStep(x, d *[3]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (helicalValleyCGAnalyticStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -653,13 +720,17 @@ func helicalValleyCGAnalyticTinyStep(x, d *[3]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func helicalValleyCGAnalyticLineSearch(x *[3]float64, fx float64, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *helicalValleyCGAnalyticDifferences) helicalValleyCGAnalyticLineResult {
+func helicalValleyCGAnalyticLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *helicalValleyCGAnalyticDifferences) helicalValleyCGAnalyticLineResult {
 	low := helicalValleyCGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high helicalValleyCGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                                       // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend helicalValleyCGAnalyticRiseTrend // of the trials failing sufficient decrease
+	var trend helicalValleyCGAnalyticRiseTrend                         // of the trials failing sufficient decrease
+	limit := helicalValleyCGAnalyticStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < helicalValleyCGAnalyticStepTrials; trial++ {
 		if bracketed && helicalValleyCGAnalyticAbs(high.step-low.step) <= tiny {
@@ -669,12 +740,12 @@ func helicalValleyCGAnalyticLineSearch(x *[3]float64, fx float64, d *[3]float64,
 			if low.step == 0 {
 				return helicalValleyCGAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: helicalValleyCGAnalyticTinyOrExhausted(helicalValleyCGAnalyticFinite(high.value))}
 			}
-			return helicalValleyCGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return helicalValleyCGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return helicalValleyCGAnalyticLineResult{calls: calls, end: helicalValleyCGAnalyticSearchOutOfBudget}
 		}
-		helicalValleyCGAnalyticMoveTo(xt, x, t, d)
+		helicalValleyCGAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := helicalValleyCGAnalyticLinePoint{step: t, value: HelicalValley(xt)}
 		calls++
 		previous := low
@@ -685,8 +756,7 @@ func helicalValleyCGAnalyticLineSearch(x *[3]float64, fx float64, d *[3]float64,
 			if calls+helicalValleyCGAnalyticDerivativeCost > budget {
 				return helicalValleyCGAnalyticLineResult{calls: calls, end: helicalValleyCGAnalyticSearchOutOfBudget}
 			}
-			helicalValleyCGAnalyticDerivative(xt, current.value, gt, diffs)
-			calls += helicalValleyCGAnalyticDerivativeCost
+			calls += helicalValleyCGAnalyticDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = helicalValleyCGAnalyticDot(gt, d), true
 			switch {
 			case !helicalValleyCGAnalyticFinite(current.slope):
@@ -697,18 +767,22 @@ func helicalValleyCGAnalyticLineSearch(x *[3]float64, fx float64, d *[3]float64,
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return helicalValleyCGAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: helicalValleyCGAnalyticSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = helicalValleyCGAnalyticZoomTrial(&low, &high)
-		} else {
-			t = helicalValleyCGAnalyticExpandTrial(&previous, &current)
+		} else if t = helicalValleyCGAnalyticExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return helicalValleyCGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return helicalValleyCGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return helicalValleyCGAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: helicalValleyCGAnalyticSearchExhausted}
 }
@@ -795,6 +869,11 @@ func helicalValleyCGAnalyticFaithfulStep(x, xt, d *[3]float64, t float64) bool {
 	return true
 }
 
+// helicalValleyCGAnalyticStepCap: without bounds a step may be as long as the search wants.
+func helicalValleyCGAnalyticStepCap(x, d *[3]float64, tiny float64, b *helicalValleyCGAnalyticBox) float64 {
+	return math.Inf(1)
+}
+
 // helicalValleyCGAnalyticTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -819,10 +898,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func helicalValleyCGAnalyticAcceptLow(x, d *[3]float64, low *helicalValleyCGAnalyticLinePoint, lowGradient *[3]float64, calls int, xt, gt *[3]float64) helicalValleyCGAnalyticLineResult {
-	helicalValleyCGAnalyticMoveTo(xt, x, low.step, d)
+func helicalValleyCGAnalyticAcceptLow(x, d *[3]float64, low *helicalValleyCGAnalyticLinePoint, lowGradient *[3]float64, calls int, xt, gt *[3]float64, diffs *helicalValleyCGAnalyticDifferences) helicalValleyCGAnalyticLineResult {
+	helicalValleyCGAnalyticTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return helicalValleyCGAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: helicalValleyCGAnalyticSearchAccepted}
+}
+
+// helicalValleyCGAnalyticTrialPoint is x + t·d.
+func helicalValleyCGAnalyticTrialPoint(out, x *[3]float64, t float64, d *[3]float64, b *helicalValleyCGAnalyticBox) {
+	helicalValleyCGAnalyticMoveTo(out, x, t, d)
 }
 
 // helicalValleyCGAnalyticMoveTo sets out = x + t·d.
@@ -877,21 +961,6 @@ func helicalValleyCGAnalyticModelMinimizer(a, b *helicalValleyCGAnalyticLinePoin
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, helicalValleyCGAnalyticFinite(t)
-}
-
-// helicalValleyCGAnalyticClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func helicalValleyCGAnalyticClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // helicalValleyCGAnalyticExpandTrial picks a larger trial after current met sufficient decrease

@@ -88,6 +88,9 @@ func HelicalValleyCGCentralDefaultLimits() HelicalValleyCGCentralLimits {
 	}
 }
 
+// helicalValleyCGCentralBox is empty: mgh.toml sets no bounds on HelicalValleyCGCentral.
+type helicalValleyCGCentralBox struct{}
+
 // HelicalValleyCGCentral minimizes HelicalValley from x0, as mgh.toml specifies.
 //
 // Direction cg: nonlinear conjugate gradients, Polak–Ribière clipped at zero (PR+), restarted every dim steps.
@@ -105,7 +108,7 @@ func HelicalValleyCGCentral(x0 [3]float64) HelicalValleyCGCentralResult {
 
 // HelicalValleyCGCentralWithLimits is HelicalValleyCGCentral with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func HelicalValleyCGCentralWithLimits(x0 [3]float64, limits HelicalValleyCGCentralLimits) HelicalValleyCGCentralResult {
-	out := helicalValleyCGCentralMinimize(x0, limits)
+	out := helicalValleyCGCentralMinimize(x0, limits, helicalValleyCGCentralBox{})
 	return HelicalValleyCGCentralResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func helicalValleyCGCentralMinimize(x0 [3]float64, lim HelicalValleyCGCentralLimits) helicalValleyCGCentralOutcome {
-	out := helicalValleyCGCentralOutcome{x: x0, status: HelicalValleyCGCentralOutOfEvaluations, gradient: math.NaN()}
+func helicalValleyCGCentralMinimize(x0 [3]float64, lim HelicalValleyCGCentralLimits, bounds helicalValleyCGCentralBox) helicalValleyCGCentralOutcome {
+	x := x0
+	helicalValleyCGCentralEnterBox(&x, &bounds)
+	out := helicalValleyCGCentralOutcome{x: x, status: HelicalValleyCGCentralOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := HelicalValley(&x)
 	out.f, out.evaluations = fx, 1
 	if !helicalValleyCGCentralFinite(fx) || !helicalValleyCGCentralFiniteVec(&x) {
 		out.status = HelicalValleyCGCentralNonFiniteStart
 		return out
 	}
-	var diffs helicalValleyCGCentralDifferences
+	diffs := helicalValleyCGCentralDifferences{bounds: bounds}
 	calls, ok := helicalValleyCGCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+helicalValleyCGCentralDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [3]float64
-	helicalValleyCGCentralDerivative(&x, fx, &g, &diffs)
-	out.evaluations += helicalValleyCGCentralDerivativeCost
+	out.evaluations += helicalValleyCGCentralDerivative(&x, fx, &g, &diffs)
 
 	if !helicalValleyCGCentralFiniteVec(&g) {
 		out.status = HelicalValleyCGCentralNonFiniteGradient
@@ -211,7 +214,7 @@ func helicalValleyCGCentralMinimize(x0 [3]float64, lim HelicalValleyCGCentralLim
 		case !confirmed:
 			helicalValleyCGCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := helicalValleyCGCentralGradientMeasure(&g, &e, &x, fx)
+		measure, floor := helicalValleyCGCentralStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, helicalValleyCGCentralLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func helicalValleyCGCentralMinimize(x0 [3]float64, lim HelicalValleyCGCentralLim
 			if rises >= 8 {
 				return best.ending(HelicalValleyCGCentralDiverged, out.iterations, out.evaluations)
 			}
+			helicalValleyCGCentralCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(HelicalValleyCGCentralOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		helicalValleyCGCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := helicalValleyCGCentralDot(&g, &d)
 		if !(now < 0) || !helicalValleyCGCentralFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			helicalValleyCGCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = helicalValleyCGCentralDot(&g, &d)
 		}
 		first := float64(helicalValleyCGCentralStepInitial)
@@ -267,7 +271,7 @@ func helicalValleyCGCentralMinimize(x0 [3]float64, lim HelicalValleyCGCentralLim
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := helicalValleyCGCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := helicalValleyCGCentralLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := helicalValleyCGCentralLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case helicalValleyCGCentralSearchOutOfBudget:
@@ -303,8 +307,7 @@ func helicalValleyCGCentralMinimize(x0 [3]float64, lim HelicalValleyCGCentralLim
 				}
 				return best.ending(HelicalValleyCGCentralOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			helicalValleyCGCentralDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += helicalValleyCGCentralDerivativeCost
+			out.evaluations += helicalValleyCGCentralDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		helicalValleyCGCentralDifference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o helicalValleyCGCentralOutcome) ending(end HelicalValleyCGCentralStatus, 
 	return o
 }
 
+// helicalValleyCGCentralEnterBox: without bounds every start is inside.
+func helicalValleyCGCentralEnterBox(x *[3]float64, b *helicalValleyCGCentralBox) {}
+
 // helicalValleyCGCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func helicalValleyCGCentralFiniteVec(x *[3]float64) bool {
 	return true
 }
 
-// helicalValleyCGCentralDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// helicalValleyCGCentralDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type helicalValleyCGCentralDifferences struct {
 	ratio     [3]float64
 	curvature [3]float64
 	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see helicalValleyCGCentralRoundingFloor)
+	bounds    helicalValleyCGCentralBox
 }
 
 // helicalValleyCGCentralCalibrate chooses each central-difference interval from the
@@ -397,19 +405,45 @@ func helicalValleyCGCentralCalibrate(x *[3]float64, fx float64, diffs *helicalVa
 	var slope [3]float64
 	scale := helicalValleyCGCentralAbs(fx)
 	quarter := helicalValleyCGCentralSquareRoot(helicalValleyCGCentralSquareRoot(helicalValleyCGCentralUnitRoundoff)) // u^(1/4)
+	calls := 0
 	for i := range probe {
-		if 4*(i+1) > budget {
-			return 4 * i, false
+		if calls+4 > budget {
+			return calls, false
 		}
 		xi := probe[i]
 		bar := quarter * helicalValleyCGCentralLarger(1, helicalValleyCGCentralAbs(xi))
+		lower, upper := helicalValleyCGCentralCoordinateRange(i, diffs)
+		if xi+2*bar > upper || xi-2*bar < lower {
+			// At a bound: three probes on the side with room, at h, 2h
+			// and 3h, for f‴ ≈ (f(3h) − 3f(2h) + 3f(h) − f(0))/h³ (the
+			// third forward difference).
+			h := helicalValleyCGCentralOneSide(xi, bar, 3, lower, upper)
+			if h == 0 {
+				continue // fixed by equal bounds
+			}
+			var f [3]float64
+			for k := range f {
+				probe[i], _ = helicalValleyCGCentralProbeStep(xi, float64(k+1)*h, lower, upper)
+				f[k] = HelicalValley(&probe)
+				scale = helicalValleyCGCentralLarger(scale, helicalValleyCGCentralMagnitude(f[k]))
+			}
+			probe[i] = xi
+			calls += 3
+			if helicalValleyCGCentralFinite(f[0]) && helicalValleyCGCentralFinite(f[1]) && helicalValleyCGCentralFinite(f[2]) {
+				diffs.curvature[i] = helicalValleyCGCentralAbs(f[2]-3*f[1]+3*f[0]-fx) / helicalValleyCGCentralAbs(h*h*h)
+				diffs.second[i] = helicalValleyCGCentralAbs(fx-2*f[0]+f[1]) / (h * h)
+				slope[i] = (-3*fx + 4*f[0] - f[1]) / (2 * h)
+			}
+			continue
+		}
 		var f [4]float64
 		for k, m := range [4]float64{2, 1, -1, -2} {
-			probe[i], _ = helicalValleyCGCentralProbeStep(xi, m*bar)
+			probe[i], _ = helicalValleyCGCentralProbeStep(xi, m*bar, lower, upper)
 			f[k] = HelicalValley(&probe)
 			scale = helicalValleyCGCentralLarger(scale, helicalValleyCGCentralMagnitude(f[k]))
 		}
 		probe[i] = xi
+		calls += 4
 		if helicalValleyCGCentralFinite(f[0]) && helicalValleyCGCentralFinite(f[1]) && helicalValleyCGCentralFinite(f[2]) && helicalValleyCGCentralFinite(f[3]) {
 			diffs.curvature[i] = helicalValleyCGCentralAbs(f[0]-2*f[1]+2*f[2]-f[3]) / (2 * bar * bar * bar)
 			diffs.second[i] = helicalValleyCGCentralAbs(f[1]-2*fx+f[2]) / (bar * bar)
@@ -428,7 +462,7 @@ func helicalValleyCGCentralCalibrate(x *[3]float64, fx float64, diffs *helicalVa
 		diffs.ratio[i] = helicalValleyCGCentralClampBetween(h, 64*helicalValleyCGCentralUnitRoundoff*s, bar) / s
 		diffs.curvature[i] = third
 	}
-	return 4 * len(probe), true
+	return calls, true
 }
 
 // helicalValleyCGCentralAbs returns |v|.
@@ -454,10 +488,48 @@ func helicalValleyCGCentralLarger(a, b float64) float64 {
 	return b
 }
 
-// helicalValleyCGCentralProbeStep returns x_i moved by h, and the step actually representable.
-func helicalValleyCGCentralProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// helicalValleyCGCentralCoordinateRange: without bounds any probe is allowed.
+func helicalValleyCGCentralCoordinateRange(i int, diffs *helicalValleyCGCentralDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// helicalValleyCGCentralOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func helicalValleyCGCentralOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
+}
+
+// helicalValleyCGCentralProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func helicalValleyCGCentralProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := helicalValleyCGCentralClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// helicalValleyCGCentralClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func helicalValleyCGCentralClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
 }
 
 // helicalValleyCGCentralMagnitude is |v| for a finite v and 0 otherwise: a probe that fell
@@ -493,42 +565,85 @@ func helicalValleyCGCentralCubeRoot(v float64) float64 {
 	return math.Cbrt(v)
 }
 
-// helicalValleyCGCentralClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func helicalValleyCGCentralClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
-}
-
 // helicalValleyCGCentralDerivative approximates the gradient by central differences,
 //
 //	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),
 //
 // with the intervals helicalValleyCGCentralCalibrate chose, h_i = ratio_i·max(1, |x_i|)
-// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls; fx is
-// not needed.
-func helicalValleyCGCentralDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *helicalValleyCGCentralDifferences) {
+// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls. Where
+// a bound leaves no room on one side, the three-point endpoint formula on
+// the other side takes its place at the same cost (see parabola); a
+// variable fixed by equal bounds costs nothing and gets 0.
+func helicalValleyCGCentralDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *helicalValleyCGCentralDifferences) int {
 	probe := *x
+	calls := 0
 	for i := range probe {
 		xi := probe[i]
-		h := diffs.ratio[i] * helicalValleyCGCentralLarger(1, helicalValleyCGCentralAbs(xi))
-		up, _ := helicalValleyCGCentralProbeStep(xi, h)
-		down, _ := helicalValleyCGCentralProbeStep(xi, -h)
-		probe[i] = up
-		fUp := HelicalValley(&probe)
-		probe[i] = down
-		fDown := HelicalValley(&probe)
-		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
-		probe[i] = xi
+		h, oneSided := helicalValleyCGCentralCentralInterval(x, i, diffs)
+		lower, upper := helicalValleyCGCentralCoordinateRange(i, diffs)
+		switch {
+		case h == 0:
+			g[i] = 0 // fixed by equal bounds
+			continue
+		case oneSided:
+			g[i], _, _ = helicalValleyCGCentralSidedProbes(&probe, i, fx, h, lower, upper) // the three-point endpoint formula
+		default:
+			up, _ := helicalValleyCGCentralProbeStep(xi, h, lower, upper)
+			down, _ := helicalValleyCGCentralProbeStep(xi, -h, lower, upper)
+			probe[i] = up
+			fUp := HelicalValley(&probe)
+			probe[i] = down
+			fDown := HelicalValley(&probe)
+			g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+			probe[i] = xi
+		}
+		calls += 2
 	}
+	return calls
+}
+
+// helicalValleyCGCentralCentralInterval is the interval of coordinate i at x, ratio_i·max(1,
+// |x_i|), and whether the box leaves room for probes on both sides; when
+// it does not, the interval is signed towards the side with room for
+// probes at h and 2h, and shortened where the box is narrower than that
+// (see helicalValleyCGCentralOneSide).
+func helicalValleyCGCentralCentralInterval(x *[3]float64, i int, diffs *helicalValleyCGCentralDifferences) (h float64, oneSided bool) {
+	lower, upper := helicalValleyCGCentralCoordinateRange(i, diffs)
+	h = diffs.ratio[i] * helicalValleyCGCentralLarger(1, helicalValleyCGCentralAbs(x[i]))
+	if x[i]+h <= upper && x[i]-h >= lower {
+		return h, false
+	}
+	return helicalValleyCGCentralOneSide(x[i], h, 2, lower, upper), true
+}
+
+// helicalValleyCGCentralSidedProbes evaluates f at x moved along coordinate i by h and by 2h,
+// kept within [lower, upper], and returns the slope and second derivative
+// of the parabola through them and (x, fx) (see parabola), and the larger
+// magnitude of the two values.
+func helicalValleyCGCentralSidedProbes(probe *[3]float64, i int, fx, h, lower, upper float64) (slope, second, size float64) {
+	xi := probe[i]
+	near, a := helicalValleyCGCentralProbeStep(xi, h, lower, upper)
+	far, b := helicalValleyCGCentralProbeStep(xi, 2*h, lower, upper)
+	probe[i] = near
+	fNear := HelicalValley(probe)
+	probe[i] = far
+	fFar := HelicalValley(probe)
+	probe[i] = xi
+	slope, second = helicalValleyCGCentralParabola(fx, a, fNear, b, fFar)
+	return slope, second, helicalValleyCGCentralLarger(helicalValleyCGCentralMagnitude(fNear), helicalValleyCGCentralMagnitude(fFar))
+}
+
+// helicalValleyCGCentralParabola returns the first and second derivatives at 0 of the parabola
+// through (0, f0), (a, fa) and (b, fb), for probes on one side of a bound.
+// With b = 2a they are the three-point endpoint formulas
+// f′ ≈ (−3f0 + 4fa − fb)/(2a), error a²|f‴|/3, and
+// f″ ≈ (f0 − 2fa + fb)/a² (Burden & Faires, Numerical Analysis, §4.1
+// and §4.1's second-derivative formulas, from memory); written for unequal
+// a and b, so that the representable steps can be used.
+func helicalValleyCGCentralParabola(f0, a, fa, b, fb float64) (slope, second float64) {
+	slope = -(a+b)/(a*b)*f0 + b/(a*(b-a))*fa - a/(b*(b-a))*fb
+	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
+	return slope, second
 }
 
 // helicalValleyCGCentralDirection is nonlinear conjugate gradients with the Polak–Ribière
@@ -650,13 +765,13 @@ func helicalValleyCGCentralConfirmGradient(x *[3]float64, fx float64, g, e *[3]f
 		wide.ratio[i] *= 2
 	}
 	var doubled [3]float64
-	helicalValleyCGCentralDerivative(x, fx, g, diffs)
-	helicalValleyCGCentralDerivative(x, fx, &doubled, &wide)
+	calls += helicalValleyCGCentralDerivative(x, fx, g, diffs)
+	calls += helicalValleyCGCentralDerivative(x, fx, &doubled, &wide)
 	helicalValleyCGCentralGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * helicalValleyCGCentralAbs(g[i]-doubled[i])
 	}
-	return calls + 2*helicalValleyCGCentralDerivativeCost, true
+	return calls, true
 }
 
 // helicalValleyCGCentralGradientError bounds each central difference's error by twice its
@@ -666,8 +781,16 @@ func helicalValleyCGCentralConfirmGradient(x *[3]float64, fx float64, g, e *[3]f
 func helicalValleyCGCentralGradientError(x *[3]float64, fx float64, g, e *[3]float64, diffs *helicalValleyCGCentralDifferences) {
 	noise := helicalValleyCGCentralNoiseLevel(x, fx, g)
 	for i := range e {
-		h := diffs.ratio[i] * helicalValleyCGCentralLarger(1, helicalValleyCGCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		h, oneSided := helicalValleyCGCentralCentralInterval(x, i, diffs)
+		h = helicalValleyCGCentralAbs(h)
+		switch {
+		case h == 0:
+			e[i] = 0 // fixed by equal bounds
+		case oneSided:
+			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+		default:
+			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		}
 	}
 }
 
@@ -689,6 +812,11 @@ func helicalValleyCGCentralRoundingFloor(x, g, e *[3]float64, diffs *helicalVall
 // calibration, which helicalValleyCGCentralConfirmGradient has just made at x.
 func helicalValleyCGCentralDiagonalCurvature(x, g *[3]float64, diffs *helicalValleyCGCentralDifferences, h *[3]float64) {
 	*h = diffs.second
+}
+
+// helicalValleyCGCentralStationarity measures the gradient itself.
+func helicalValleyCGCentralStationarity(g, e, x *[3]float64, fx float64, b *helicalValleyCGCentralBox) (measure, floor float64) {
+	return helicalValleyCGCentralGradientMeasure(g, e, x, fx)
 }
 
 // helicalValleyCGCentralGradientMeasure is the scale-free measure
@@ -724,6 +852,14 @@ func helicalValleyCGCentralStepWithin(s, x *[3]float64, tol float64) bool {
 	return true
 }
 
+// helicalValleyCGCentralCurvaturePair: without bounds the pair is used as it is.
+func helicalValleyCGCentralCurvaturePair(s, y, x *[3]float64, b *helicalValleyCGCentralBox) {}
+
+// helicalValleyCGCentralSearchDirection is the direction's own.
+func helicalValleyCGCentralSearchDirection(dir *helicalValleyCGCentralDirection, x, g, d *[3]float64, b *helicalValleyCGCentralBox) {
+	dir.compute(g, d)
+}
+
 // helicalValleyCGCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func helicalValleyCGCentralTinyStep(x, d *[3]float64, tol float64) float64 {
@@ -751,7 +887,10 @@ func helicalValleyCGCentralTinyStep(x, d *[3]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (helicalValleyCGCentralStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -760,13 +899,17 @@ func helicalValleyCGCentralTinyStep(x, d *[3]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func helicalValleyCGCentralLineSearch(x *[3]float64, fx float64, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *helicalValleyCGCentralDifferences) helicalValleyCGCentralLineResult {
+func helicalValleyCGCentralLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *helicalValleyCGCentralDifferences) helicalValleyCGCentralLineResult {
 	low := helicalValleyCGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high helicalValleyCGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                                      // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend helicalValleyCGCentralRiseTrend // of the trials failing sufficient decrease
+	var trend helicalValleyCGCentralRiseTrend                         // of the trials failing sufficient decrease
+	limit := helicalValleyCGCentralStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < helicalValleyCGCentralStepTrials; trial++ {
 		if bracketed && helicalValleyCGCentralAbs(high.step-low.step) <= tiny {
@@ -776,12 +919,12 @@ func helicalValleyCGCentralLineSearch(x *[3]float64, fx float64, d *[3]float64, 
 			if low.step == 0 {
 				return helicalValleyCGCentralLineResult{calls: calls, rising: trend.contradicts(), end: helicalValleyCGCentralTinyOrExhausted(helicalValleyCGCentralFinite(high.value))}
 			}
-			return helicalValleyCGCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return helicalValleyCGCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return helicalValleyCGCentralLineResult{calls: calls, end: helicalValleyCGCentralSearchOutOfBudget}
 		}
-		helicalValleyCGCentralMoveTo(xt, x, t, d)
+		helicalValleyCGCentralTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := helicalValleyCGCentralLinePoint{step: t, value: HelicalValley(xt)}
 		calls++
 		previous := low
@@ -792,8 +935,7 @@ func helicalValleyCGCentralLineSearch(x *[3]float64, fx float64, d *[3]float64, 
 			if calls+helicalValleyCGCentralDerivativeCost > budget {
 				return helicalValleyCGCentralLineResult{calls: calls, end: helicalValleyCGCentralSearchOutOfBudget}
 			}
-			helicalValleyCGCentralDerivative(xt, current.value, gt, diffs)
-			calls += helicalValleyCGCentralDerivativeCost
+			calls += helicalValleyCGCentralDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = helicalValleyCGCentralDot(gt, d), true
 			switch {
 			case !helicalValleyCGCentralFinite(current.slope):
@@ -804,18 +946,22 @@ func helicalValleyCGCentralLineSearch(x *[3]float64, fx float64, d *[3]float64, 
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return helicalValleyCGCentralLineResult{step: t, value: current.value, calls: calls, gradient: true, end: helicalValleyCGCentralSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = helicalValleyCGCentralZoomTrial(&low, &high)
-		} else {
-			t = helicalValleyCGCentralExpandTrial(&previous, &current)
+		} else if t = helicalValleyCGCentralExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return helicalValleyCGCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return helicalValleyCGCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return helicalValleyCGCentralLineResult{calls: calls, rising: trend.contradicts(), end: helicalValleyCGCentralSearchExhausted}
 }
@@ -902,6 +1048,11 @@ func helicalValleyCGCentralFaithfulStep(x, xt, d *[3]float64, t float64) bool {
 	return true
 }
 
+// helicalValleyCGCentralStepCap: without bounds a step may be as long as the search wants.
+func helicalValleyCGCentralStepCap(x, d *[3]float64, tiny float64, b *helicalValleyCGCentralBox) float64 {
+	return math.Inf(1)
+}
+
 // helicalValleyCGCentralTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -926,10 +1077,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func helicalValleyCGCentralAcceptLow(x, d *[3]float64, low *helicalValleyCGCentralLinePoint, lowGradient *[3]float64, calls int, xt, gt *[3]float64) helicalValleyCGCentralLineResult {
-	helicalValleyCGCentralMoveTo(xt, x, low.step, d)
+func helicalValleyCGCentralAcceptLow(x, d *[3]float64, low *helicalValleyCGCentralLinePoint, lowGradient *[3]float64, calls int, xt, gt *[3]float64, diffs *helicalValleyCGCentralDifferences) helicalValleyCGCentralLineResult {
+	helicalValleyCGCentralTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return helicalValleyCGCentralLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: helicalValleyCGCentralSearchAccepted}
+}
+
+// helicalValleyCGCentralTrialPoint is x + t·d.
+func helicalValleyCGCentralTrialPoint(out, x *[3]float64, t float64, d *[3]float64, b *helicalValleyCGCentralBox) {
+	helicalValleyCGCentralMoveTo(out, x, t, d)
 }
 
 // helicalValleyCGCentralMoveTo sets out = x + t·d.

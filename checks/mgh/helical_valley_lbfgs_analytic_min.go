@@ -88,6 +88,9 @@ func HelicalValleyLBFGSAnalyticDefaultLimits() HelicalValleyLBFGSAnalyticLimits 
 	}
 }
 
+// helicalValleyLBFGSAnalyticBox is empty: mgh.toml sets no bounds on HelicalValleyLBFGSAnalytic.
+type helicalValleyLBFGSAnalyticBox struct{}
+
 // HelicalValleyLBFGSAnalytic minimizes HelicalValley from x0, as mgh.toml specifies.
 //
 // Direction lbfgs: limited-memory BFGS: the last `memory` pairs, two-loop recursion (2·memory·dim numbers).
@@ -105,7 +108,7 @@ func HelicalValleyLBFGSAnalytic(x0 [3]float64) HelicalValleyLBFGSAnalyticResult 
 
 // HelicalValleyLBFGSAnalyticWithLimits is HelicalValleyLBFGSAnalytic with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func HelicalValleyLBFGSAnalyticWithLimits(x0 [3]float64, limits HelicalValleyLBFGSAnalyticLimits) HelicalValleyLBFGSAnalyticResult {
-	out := helicalValleyLBFGSAnalyticMinimize(x0, limits)
+	out := helicalValleyLBFGSAnalyticMinimize(x0, limits, helicalValleyLBFGSAnalyticBox{})
 	return HelicalValleyLBFGSAnalyticResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -159,27 +162,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func helicalValleyLBFGSAnalyticMinimize(x0 [3]float64, lim HelicalValleyLBFGSAnalyticLimits) helicalValleyLBFGSAnalyticOutcome {
-	out := helicalValleyLBFGSAnalyticOutcome{x: x0, status: HelicalValleyLBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
+func helicalValleyLBFGSAnalyticMinimize(x0 [3]float64, lim HelicalValleyLBFGSAnalyticLimits, bounds helicalValleyLBFGSAnalyticBox) helicalValleyLBFGSAnalyticOutcome {
+	x := x0
+	helicalValleyLBFGSAnalyticEnterBox(&x, &bounds)
+	out := helicalValleyLBFGSAnalyticOutcome{x: x, status: HelicalValleyLBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := HelicalValley(&x)
 	out.f, out.evaluations = fx, 1
 	if !helicalValleyLBFGSAnalyticFinite(fx) || !helicalValleyLBFGSAnalyticFiniteVec(&x) {
 		out.status = HelicalValleyLBFGSAnalyticNonFiniteStart
 		return out
 	}
-	var diffs helicalValleyLBFGSAnalyticDifferences
+	diffs := helicalValleyLBFGSAnalyticDifferences{bounds: bounds}
 	calls, ok := helicalValleyLBFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+helicalValleyLBFGSAnalyticDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [3]float64
-	helicalValleyLBFGSAnalyticDerivative(&x, fx, &g, &diffs)
-	out.evaluations += helicalValleyLBFGSAnalyticDerivativeCost
+	out.evaluations += helicalValleyLBFGSAnalyticDerivative(&x, fx, &g, &diffs)
 
 	if !helicalValleyLBFGSAnalyticFiniteVec(&g) {
 		out.status = HelicalValleyLBFGSAnalyticNonFiniteGradient
@@ -212,7 +215,7 @@ func helicalValleyLBFGSAnalyticMinimize(x0 [3]float64, lim HelicalValleyLBFGSAna
 		case !confirmed:
 			helicalValleyLBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := helicalValleyLBFGSAnalyticGradientMeasure(&g, &e, &x, fx)
+		measure, floor := helicalValleyLBFGSAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, helicalValleyLBFGSAnalyticLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -251,16 +254,17 @@ func helicalValleyLBFGSAnalyticMinimize(x0 [3]float64, lim HelicalValleyLBFGSAna
 			if rises >= 8 {
 				return best.ending(HelicalValleyLBFGSAnalyticDiverged, out.iterations, out.evaluations)
 			}
+			helicalValleyLBFGSAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(HelicalValleyLBFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		helicalValleyLBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := helicalValleyLBFGSAnalyticDot(&g, &d)
 		if !(now < 0) || !helicalValleyLBFGSAnalyticFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			helicalValleyLBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = helicalValleyLBFGSAnalyticDot(&g, &d)
 		}
 		first := float64(helicalValleyLBFGSAnalyticStepInitial)
@@ -268,7 +272,7 @@ func helicalValleyLBFGSAnalyticMinimize(x0 [3]float64, lim HelicalValleyLBFGSAna
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := helicalValleyLBFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := helicalValleyLBFGSAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := helicalValleyLBFGSAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case helicalValleyLBFGSAnalyticSearchOutOfBudget:
@@ -304,8 +308,7 @@ func helicalValleyLBFGSAnalyticMinimize(x0 [3]float64, lim HelicalValleyLBFGSAna
 				}
 				return best.ending(HelicalValleyLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			helicalValleyLBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += helicalValleyLBFGSAnalyticDerivativeCost
+			out.evaluations += helicalValleyLBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		helicalValleyLBFGSAnalyticDifference(&s, &xt, &x)
@@ -346,6 +349,9 @@ func (o helicalValleyLBFGSAnalyticOutcome) ending(end HelicalValleyLBFGSAnalytic
 	return o
 }
 
+// helicalValleyLBFGSAnalyticEnterBox: without bounds every start is inside.
+func helicalValleyLBFGSAnalyticEnterBox(x *[3]float64, b *helicalValleyLBFGSAnalyticBox) {}
+
 // helicalValleyLBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -368,15 +374,17 @@ func helicalValleyLBFGSAnalyticFiniteVec(x *[3]float64) bool {
 	return true
 }
 
-// helicalValleyLBFGSAnalyticDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// helicalValleyLBFGSAnalyticDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type helicalValleyLBFGSAnalyticDifferences struct {
 	ratio     [3]float64
 	curvature [3]float64
 	second    [3]float64 // |f″| along e_i, for the rounding floor of a stall (see helicalValleyLBFGSAnalyticRoundingFloor)
+	bounds    helicalValleyLBFGSAnalyticBox
 }
 
 // helicalValleyLBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
@@ -385,8 +393,9 @@ func helicalValleyLBFGSAnalyticCalibrate(x *[3]float64, fx float64, diffs *helic
 }
 
 // helicalValleyLBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func helicalValleyLBFGSAnalyticDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *helicalValleyLBFGSAnalyticDifferences) {
+func helicalValleyLBFGSAnalyticDerivative(x *[3]float64, fx float64, g *[3]float64, diffs *helicalValleyLBFGSAnalyticDifferences) int {
 	HelicalValleyGrad(x, g)
+	return 0
 }
 
 // helicalValleyLBFGSAnalyticDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
@@ -551,13 +560,13 @@ func helicalValleyLBFGSAnalyticConfirmGradient(x *[3]float64, fx float64, g, e *
 		wide.ratio[i] *= 2
 	}
 	var doubled [3]float64
-	helicalValleyLBFGSAnalyticDerivative(x, fx, g, diffs)
-	helicalValleyLBFGSAnalyticDerivative(x, fx, &doubled, &wide)
+	calls += helicalValleyLBFGSAnalyticDerivative(x, fx, g, diffs)
+	calls += helicalValleyLBFGSAnalyticDerivative(x, fx, &doubled, &wide)
 	helicalValleyLBFGSAnalyticGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * helicalValleyLBFGSAnalyticAbs(g[i]-doubled[i])
 	}
-	return calls + 2*helicalValleyLBFGSAnalyticDerivativeCost, true
+	return calls, true
 }
 
 // helicalValleyLBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
@@ -599,18 +608,60 @@ func helicalValleyLBFGSAnalyticDiagonalCurvature(x, g *[3]float64, diffs *helica
 	var moved [3]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := helicalValleyLBFGSAnalyticProbeStep(xi, helicalValleyLBFGSAnalyticSquareRoot(helicalValleyLBFGSAnalyticUnitRoundoff)*helicalValleyLBFGSAnalyticLarger(1, helicalValleyLBFGSAnalyticAbs(xi)))
-		probe[i] = up
-		HelicalValleyGrad(&probe, &moved)
-		h[i] = helicalValleyLBFGSAnalyticAbs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := helicalValleyLBFGSAnalyticCoordinateRange(i, diffs)
+		up, delta := helicalValleyLBFGSAnalyticProbeStep(xi, helicalValleyLBFGSAnalyticOneSide(xi, helicalValleyLBFGSAnalyticSquareRoot(helicalValleyLBFGSAnalyticUnitRoundoff)*helicalValleyLBFGSAnalyticLarger(1, helicalValleyLBFGSAnalyticAbs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			HelicalValleyGrad(&probe, &moved)
+			h[i] = helicalValleyLBFGSAnalyticAbs(moved[i]-g[i]) / helicalValleyLBFGSAnalyticAbs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// helicalValleyLBFGSAnalyticProbeStep returns x_i moved by h, and the step actually representable.
-func helicalValleyLBFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// helicalValleyLBFGSAnalyticCoordinateRange: without bounds any probe is allowed.
+func helicalValleyLBFGSAnalyticCoordinateRange(i int, diffs *helicalValleyLBFGSAnalyticDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// helicalValleyLBFGSAnalyticProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func helicalValleyLBFGSAnalyticProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := helicalValleyLBFGSAnalyticClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// helicalValleyLBFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func helicalValleyLBFGSAnalyticClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// helicalValleyLBFGSAnalyticOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func helicalValleyLBFGSAnalyticOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // helicalValleyLBFGSAnalyticSquareRoot returns √v.
@@ -626,6 +677,11 @@ func helicalValleyLBFGSAnalyticLarger(a, b float64) float64 {
 		return a
 	}
 	return b
+}
+
+// helicalValleyLBFGSAnalyticStationarity measures the gradient itself.
+func helicalValleyLBFGSAnalyticStationarity(g, e, x *[3]float64, fx float64, b *helicalValleyLBFGSAnalyticBox) (measure, floor float64) {
+	return helicalValleyLBFGSAnalyticGradientMeasure(g, e, x, fx)
 }
 
 // helicalValleyLBFGSAnalyticGradientMeasure is the scale-free measure
@@ -661,6 +717,14 @@ func helicalValleyLBFGSAnalyticStepWithin(s, x *[3]float64, tol float64) bool {
 	return true
 }
 
+// helicalValleyLBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
+func helicalValleyLBFGSAnalyticCurvaturePair(s, y, x *[3]float64, b *helicalValleyLBFGSAnalyticBox) {}
+
+// helicalValleyLBFGSAnalyticSearchDirection is the direction's own.
+func helicalValleyLBFGSAnalyticSearchDirection(dir *helicalValleyLBFGSAnalyticDirection, x, g, d *[3]float64, b *helicalValleyLBFGSAnalyticBox) {
+	dir.compute(g, d)
+}
+
 // helicalValleyLBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func helicalValleyLBFGSAnalyticTinyStep(x, d *[3]float64, tol float64) float64 {
@@ -688,7 +752,10 @@ func helicalValleyLBFGSAnalyticTinyStep(x, d *[3]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (helicalValleyLBFGSAnalyticStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -697,13 +764,17 @@ func helicalValleyLBFGSAnalyticTinyStep(x, d *[3]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func helicalValleyLBFGSAnalyticLineSearch(x *[3]float64, fx float64, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *helicalValleyLBFGSAnalyticDifferences) helicalValleyLBFGSAnalyticLineResult {
+func helicalValleyLBFGSAnalyticLineSearch(x *[3]float64, fx float64, g, d *[3]float64, slope, first, tiny float64, budget int, xt, gt *[3]float64, diffs *helicalValleyLBFGSAnalyticDifferences) helicalValleyLBFGSAnalyticLineResult {
 	low := helicalValleyLBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high helicalValleyLBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float64                                                          // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend helicalValleyLBFGSAnalyticRiseTrend // of the trials failing sufficient decrease
+	var trend helicalValleyLBFGSAnalyticRiseTrend                         // of the trials failing sufficient decrease
+	limit := helicalValleyLBFGSAnalyticStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < helicalValleyLBFGSAnalyticStepTrials; trial++ {
 		if bracketed && helicalValleyLBFGSAnalyticAbs(high.step-low.step) <= tiny {
@@ -713,12 +784,12 @@ func helicalValleyLBFGSAnalyticLineSearch(x *[3]float64, fx float64, d *[3]float
 			if low.step == 0 {
 				return helicalValleyLBFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: helicalValleyLBFGSAnalyticTinyOrExhausted(helicalValleyLBFGSAnalyticFinite(high.value))}
 			}
-			return helicalValleyLBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return helicalValleyLBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return helicalValleyLBFGSAnalyticLineResult{calls: calls, end: helicalValleyLBFGSAnalyticSearchOutOfBudget}
 		}
-		helicalValleyLBFGSAnalyticMoveTo(xt, x, t, d)
+		helicalValleyLBFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := helicalValleyLBFGSAnalyticLinePoint{step: t, value: HelicalValley(xt)}
 		calls++
 		previous := low
@@ -729,8 +800,7 @@ func helicalValleyLBFGSAnalyticLineSearch(x *[3]float64, fx float64, d *[3]float
 			if calls+helicalValleyLBFGSAnalyticDerivativeCost > budget {
 				return helicalValleyLBFGSAnalyticLineResult{calls: calls, end: helicalValleyLBFGSAnalyticSearchOutOfBudget}
 			}
-			helicalValleyLBFGSAnalyticDerivative(xt, current.value, gt, diffs)
-			calls += helicalValleyLBFGSAnalyticDerivativeCost
+			calls += helicalValleyLBFGSAnalyticDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = helicalValleyLBFGSAnalyticDot(gt, d), true
 			switch {
 			case !helicalValleyLBFGSAnalyticFinite(current.slope):
@@ -741,18 +811,22 @@ func helicalValleyLBFGSAnalyticLineSearch(x *[3]float64, fx float64, d *[3]float
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return helicalValleyLBFGSAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: helicalValleyLBFGSAnalyticSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = helicalValleyLBFGSAnalyticZoomTrial(&low, &high)
-		} else {
-			t = helicalValleyLBFGSAnalyticExpandTrial(&previous, &current)
+		} else if t = helicalValleyLBFGSAnalyticExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return helicalValleyLBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return helicalValleyLBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return helicalValleyLBFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: helicalValleyLBFGSAnalyticSearchExhausted}
 }
@@ -839,6 +913,11 @@ func helicalValleyLBFGSAnalyticFaithfulStep(x, xt, d *[3]float64, t float64) boo
 	return true
 }
 
+// helicalValleyLBFGSAnalyticStepCap: without bounds a step may be as long as the search wants.
+func helicalValleyLBFGSAnalyticStepCap(x, d *[3]float64, tiny float64, b *helicalValleyLBFGSAnalyticBox) float64 {
+	return math.Inf(1)
+}
+
 // helicalValleyLBFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -863,10 +942,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func helicalValleyLBFGSAnalyticAcceptLow(x, d *[3]float64, low *helicalValleyLBFGSAnalyticLinePoint, lowGradient *[3]float64, calls int, xt, gt *[3]float64) helicalValleyLBFGSAnalyticLineResult {
-	helicalValleyLBFGSAnalyticMoveTo(xt, x, low.step, d)
+func helicalValleyLBFGSAnalyticAcceptLow(x, d *[3]float64, low *helicalValleyLBFGSAnalyticLinePoint, lowGradient *[3]float64, calls int, xt, gt *[3]float64, diffs *helicalValleyLBFGSAnalyticDifferences) helicalValleyLBFGSAnalyticLineResult {
+	helicalValleyLBFGSAnalyticTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return helicalValleyLBFGSAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: helicalValleyLBFGSAnalyticSearchAccepted}
+}
+
+// helicalValleyLBFGSAnalyticTrialPoint is x + t·d.
+func helicalValleyLBFGSAnalyticTrialPoint(out, x *[3]float64, t float64, d *[3]float64, b *helicalValleyLBFGSAnalyticBox) {
+	helicalValleyLBFGSAnalyticMoveTo(out, x, t, d)
 }
 
 // helicalValleyLBFGSAnalyticMoveTo sets out = x + t·d.
@@ -921,21 +1005,6 @@ func helicalValleyLBFGSAnalyticModelMinimizer(a, b *helicalValleyLBFGSAnalyticLi
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, helicalValleyLBFGSAnalyticFinite(t)
-}
-
-// helicalValleyLBFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func helicalValleyLBFGSAnalyticClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // helicalValleyLBFGSAnalyticExpandTrial picks a larger trial after current met sufficient decrease

@@ -88,6 +88,9 @@ func PenaltyI10BFGSAnalyticDefaultLimits() PenaltyI10BFGSAnalyticLimits {
 	}
 }
 
+// penaltyI10BFGSAnalyticBox is empty: mgh.toml sets no bounds on PenaltyI10BFGSAnalytic.
+type penaltyI10BFGSAnalyticBox struct{}
+
 // PenaltyI10BFGSAnalytic minimizes PenaltyI10 from x0, as mgh.toml specifies.
 //
 // Direction bfgs: BFGS quasi-Newton with a dense inverse-Hessian approximation (dim² numbers).
@@ -105,7 +108,7 @@ func PenaltyI10BFGSAnalytic(x0 [10]float64) PenaltyI10BFGSAnalyticResult {
 
 // PenaltyI10BFGSAnalyticWithLimits is PenaltyI10BFGSAnalytic with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func PenaltyI10BFGSAnalyticWithLimits(x0 [10]float64, limits PenaltyI10BFGSAnalyticLimits) PenaltyI10BFGSAnalyticResult {
-	out := penaltyI10BFGSAnalyticMinimize(x0, limits)
+	out := penaltyI10BFGSAnalyticMinimize(x0, limits, penaltyI10BFGSAnalyticBox{})
 	return PenaltyI10BFGSAnalyticResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func penaltyI10BFGSAnalyticMinimize(x0 [10]float64, lim PenaltyI10BFGSAnalyticLimits) penaltyI10BFGSAnalyticOutcome {
-	out := penaltyI10BFGSAnalyticOutcome{x: x0, status: PenaltyI10BFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
+func penaltyI10BFGSAnalyticMinimize(x0 [10]float64, lim PenaltyI10BFGSAnalyticLimits, bounds penaltyI10BFGSAnalyticBox) penaltyI10BFGSAnalyticOutcome {
+	x := x0
+	penaltyI10BFGSAnalyticEnterBox(&x, &bounds)
+	out := penaltyI10BFGSAnalyticOutcome{x: x, status: PenaltyI10BFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := PenaltyI10(&x)
 	out.f, out.evaluations = fx, 1
 	if !penaltyI10BFGSAnalyticFinite(fx) || !penaltyI10BFGSAnalyticFiniteVec(&x) {
 		out.status = PenaltyI10BFGSAnalyticNonFiniteStart
 		return out
 	}
-	var diffs penaltyI10BFGSAnalyticDifferences
+	diffs := penaltyI10BFGSAnalyticDifferences{bounds: bounds}
 	calls, ok := penaltyI10BFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+penaltyI10BFGSAnalyticDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [10]float64
-	penaltyI10BFGSAnalyticDerivative(&x, fx, &g, &diffs)
-	out.evaluations += penaltyI10BFGSAnalyticDerivativeCost
+	out.evaluations += penaltyI10BFGSAnalyticDerivative(&x, fx, &g, &diffs)
 
 	if !penaltyI10BFGSAnalyticFiniteVec(&g) {
 		out.status = PenaltyI10BFGSAnalyticNonFiniteGradient
@@ -211,7 +214,7 @@ func penaltyI10BFGSAnalyticMinimize(x0 [10]float64, lim PenaltyI10BFGSAnalyticLi
 		case !confirmed:
 			penaltyI10BFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := penaltyI10BFGSAnalyticGradientMeasure(&g, &e, &x, fx)
+		measure, floor := penaltyI10BFGSAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, penaltyI10BFGSAnalyticLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func penaltyI10BFGSAnalyticMinimize(x0 [10]float64, lim PenaltyI10BFGSAnalyticLi
 			if rises >= 8 {
 				return best.ending(PenaltyI10BFGSAnalyticDiverged, out.iterations, out.evaluations)
 			}
+			penaltyI10BFGSAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(PenaltyI10BFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		penaltyI10BFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := penaltyI10BFGSAnalyticDot(&g, &d)
 		if !(now < 0) || !penaltyI10BFGSAnalyticFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			penaltyI10BFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = penaltyI10BFGSAnalyticDot(&g, &d)
 		}
 		first := float64(penaltyI10BFGSAnalyticStepInitial)
@@ -267,7 +271,7 @@ func penaltyI10BFGSAnalyticMinimize(x0 [10]float64, lim PenaltyI10BFGSAnalyticLi
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := penaltyI10BFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := penaltyI10BFGSAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := penaltyI10BFGSAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case penaltyI10BFGSAnalyticSearchOutOfBudget:
@@ -303,8 +307,7 @@ func penaltyI10BFGSAnalyticMinimize(x0 [10]float64, lim PenaltyI10BFGSAnalyticLi
 				}
 				return best.ending(PenaltyI10BFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			penaltyI10BFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += penaltyI10BFGSAnalyticDerivativeCost
+			out.evaluations += penaltyI10BFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		penaltyI10BFGSAnalyticDifference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o penaltyI10BFGSAnalyticOutcome) ending(end PenaltyI10BFGSAnalyticStatus, 
 	return o
 }
 
+// penaltyI10BFGSAnalyticEnterBox: without bounds every start is inside.
+func penaltyI10BFGSAnalyticEnterBox(x *[10]float64, b *penaltyI10BFGSAnalyticBox) {}
+
 // penaltyI10BFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func penaltyI10BFGSAnalyticFiniteVec(x *[10]float64) bool {
 	return true
 }
 
-// penaltyI10BFGSAnalyticDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// penaltyI10BFGSAnalyticDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type penaltyI10BFGSAnalyticDifferences struct {
 	ratio     [10]float64
 	curvature [10]float64
 	second    [10]float64 // |f″| along e_i, for the rounding floor of a stall (see penaltyI10BFGSAnalyticRoundingFloor)
+	bounds    penaltyI10BFGSAnalyticBox
 }
 
 // penaltyI10BFGSAnalyticCalibrate: an analytic gradient needs no intervals.
@@ -384,8 +392,9 @@ func penaltyI10BFGSAnalyticCalibrate(x *[10]float64, fx float64, diffs *penaltyI
 }
 
 // penaltyI10BFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func penaltyI10BFGSAnalyticDerivative(x *[10]float64, fx float64, g *[10]float64, diffs *penaltyI10BFGSAnalyticDifferences) {
+func penaltyI10BFGSAnalyticDerivative(x *[10]float64, fx float64, g *[10]float64, diffs *penaltyI10BFGSAnalyticDifferences) int {
 	PenaltyI10Grad(x, g)
+	return 0
 }
 
 // penaltyI10BFGSAnalyticDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
@@ -525,13 +534,13 @@ func penaltyI10BFGSAnalyticConfirmGradient(x *[10]float64, fx float64, g, e *[10
 		wide.ratio[i] *= 2
 	}
 	var doubled [10]float64
-	penaltyI10BFGSAnalyticDerivative(x, fx, g, diffs)
-	penaltyI10BFGSAnalyticDerivative(x, fx, &doubled, &wide)
+	calls += penaltyI10BFGSAnalyticDerivative(x, fx, g, diffs)
+	calls += penaltyI10BFGSAnalyticDerivative(x, fx, &doubled, &wide)
 	penaltyI10BFGSAnalyticGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * penaltyI10BFGSAnalyticAbs(g[i]-doubled[i])
 	}
-	return calls + 2*penaltyI10BFGSAnalyticDerivativeCost, true
+	return calls, true
 }
 
 // penaltyI10BFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
@@ -573,18 +582,60 @@ func penaltyI10BFGSAnalyticDiagonalCurvature(x, g *[10]float64, diffs *penaltyI1
 	var moved [10]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := penaltyI10BFGSAnalyticProbeStep(xi, penaltyI10BFGSAnalyticSquareRoot(penaltyI10BFGSAnalyticUnitRoundoff)*penaltyI10BFGSAnalyticLarger(1, penaltyI10BFGSAnalyticAbs(xi)))
-		probe[i] = up
-		PenaltyI10Grad(&probe, &moved)
-		h[i] = penaltyI10BFGSAnalyticAbs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := penaltyI10BFGSAnalyticCoordinateRange(i, diffs)
+		up, delta := penaltyI10BFGSAnalyticProbeStep(xi, penaltyI10BFGSAnalyticOneSide(xi, penaltyI10BFGSAnalyticSquareRoot(penaltyI10BFGSAnalyticUnitRoundoff)*penaltyI10BFGSAnalyticLarger(1, penaltyI10BFGSAnalyticAbs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			PenaltyI10Grad(&probe, &moved)
+			h[i] = penaltyI10BFGSAnalyticAbs(moved[i]-g[i]) / penaltyI10BFGSAnalyticAbs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// penaltyI10BFGSAnalyticProbeStep returns x_i moved by h, and the step actually representable.
-func penaltyI10BFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// penaltyI10BFGSAnalyticCoordinateRange: without bounds any probe is allowed.
+func penaltyI10BFGSAnalyticCoordinateRange(i int, diffs *penaltyI10BFGSAnalyticDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// penaltyI10BFGSAnalyticProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func penaltyI10BFGSAnalyticProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := penaltyI10BFGSAnalyticClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// penaltyI10BFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func penaltyI10BFGSAnalyticClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// penaltyI10BFGSAnalyticOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func penaltyI10BFGSAnalyticOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // penaltyI10BFGSAnalyticSquareRoot returns √v.
@@ -600,6 +651,11 @@ func penaltyI10BFGSAnalyticLarger(a, b float64) float64 {
 		return a
 	}
 	return b
+}
+
+// penaltyI10BFGSAnalyticStationarity measures the gradient itself.
+func penaltyI10BFGSAnalyticStationarity(g, e, x *[10]float64, fx float64, b *penaltyI10BFGSAnalyticBox) (measure, floor float64) {
+	return penaltyI10BFGSAnalyticGradientMeasure(g, e, x, fx)
 }
 
 // penaltyI10BFGSAnalyticGradientMeasure is the scale-free measure
@@ -635,6 +691,14 @@ func penaltyI10BFGSAnalyticStepWithin(s, x *[10]float64, tol float64) bool {
 	return true
 }
 
+// penaltyI10BFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
+func penaltyI10BFGSAnalyticCurvaturePair(s, y, x *[10]float64, b *penaltyI10BFGSAnalyticBox) {}
+
+// penaltyI10BFGSAnalyticSearchDirection is the direction's own.
+func penaltyI10BFGSAnalyticSearchDirection(dir *penaltyI10BFGSAnalyticDirection, x, g, d *[10]float64, b *penaltyI10BFGSAnalyticBox) {
+	dir.compute(g, d)
+}
+
 // penaltyI10BFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func penaltyI10BFGSAnalyticTinyStep(x, d *[10]float64, tol float64) float64 {
@@ -662,7 +726,10 @@ func penaltyI10BFGSAnalyticTinyStep(x, d *[10]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (penaltyI10BFGSAnalyticStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -671,13 +738,17 @@ func penaltyI10BFGSAnalyticTinyStep(x, d *[10]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func penaltyI10BFGSAnalyticLineSearch(x *[10]float64, fx float64, d *[10]float64, slope, first, tiny float64, budget int, xt, gt *[10]float64, diffs *penaltyI10BFGSAnalyticDifferences) penaltyI10BFGSAnalyticLineResult {
+func penaltyI10BFGSAnalyticLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first, tiny float64, budget int, xt, gt *[10]float64, diffs *penaltyI10BFGSAnalyticDifferences) penaltyI10BFGSAnalyticLineResult {
 	low := penaltyI10BFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyI10BFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                     // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend penaltyI10BFGSAnalyticRiseTrend // of the trials failing sufficient decrease
+	var trend penaltyI10BFGSAnalyticRiseTrend                         // of the trials failing sufficient decrease
+	limit := penaltyI10BFGSAnalyticStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < penaltyI10BFGSAnalyticStepTrials; trial++ {
 		if bracketed && penaltyI10BFGSAnalyticAbs(high.step-low.step) <= tiny {
@@ -687,12 +758,12 @@ func penaltyI10BFGSAnalyticLineSearch(x *[10]float64, fx float64, d *[10]float64
 			if low.step == 0 {
 				return penaltyI10BFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: penaltyI10BFGSAnalyticTinyOrExhausted(penaltyI10BFGSAnalyticFinite(high.value))}
 			}
-			return penaltyI10BFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return penaltyI10BFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return penaltyI10BFGSAnalyticLineResult{calls: calls, end: penaltyI10BFGSAnalyticSearchOutOfBudget}
 		}
-		penaltyI10BFGSAnalyticMoveTo(xt, x, t, d)
+		penaltyI10BFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := penaltyI10BFGSAnalyticLinePoint{step: t, value: PenaltyI10(xt)}
 		calls++
 		previous := low
@@ -703,8 +774,7 @@ func penaltyI10BFGSAnalyticLineSearch(x *[10]float64, fx float64, d *[10]float64
 			if calls+penaltyI10BFGSAnalyticDerivativeCost > budget {
 				return penaltyI10BFGSAnalyticLineResult{calls: calls, end: penaltyI10BFGSAnalyticSearchOutOfBudget}
 			}
-			penaltyI10BFGSAnalyticDerivative(xt, current.value, gt, diffs)
-			calls += penaltyI10BFGSAnalyticDerivativeCost
+			calls += penaltyI10BFGSAnalyticDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = penaltyI10BFGSAnalyticDot(gt, d), true
 			switch {
 			case !penaltyI10BFGSAnalyticFinite(current.slope):
@@ -715,18 +785,22 @@ func penaltyI10BFGSAnalyticLineSearch(x *[10]float64, fx float64, d *[10]float64
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return penaltyI10BFGSAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: penaltyI10BFGSAnalyticSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = penaltyI10BFGSAnalyticZoomTrial(&low, &high)
-		} else {
-			t = penaltyI10BFGSAnalyticExpandTrial(&previous, &current)
+		} else if t = penaltyI10BFGSAnalyticExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return penaltyI10BFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return penaltyI10BFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return penaltyI10BFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: penaltyI10BFGSAnalyticSearchExhausted}
 }
@@ -813,6 +887,11 @@ func penaltyI10BFGSAnalyticFaithfulStep(x, xt, d *[10]float64, t float64) bool {
 	return true
 }
 
+// penaltyI10BFGSAnalyticStepCap: without bounds a step may be as long as the search wants.
+func penaltyI10BFGSAnalyticStepCap(x, d *[10]float64, tiny float64, b *penaltyI10BFGSAnalyticBox) float64 {
+	return math.Inf(1)
+}
+
 // penaltyI10BFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -837,10 +916,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func penaltyI10BFGSAnalyticAcceptLow(x, d *[10]float64, low *penaltyI10BFGSAnalyticLinePoint, lowGradient *[10]float64, calls int, xt, gt *[10]float64) penaltyI10BFGSAnalyticLineResult {
-	penaltyI10BFGSAnalyticMoveTo(xt, x, low.step, d)
+func penaltyI10BFGSAnalyticAcceptLow(x, d *[10]float64, low *penaltyI10BFGSAnalyticLinePoint, lowGradient *[10]float64, calls int, xt, gt *[10]float64, diffs *penaltyI10BFGSAnalyticDifferences) penaltyI10BFGSAnalyticLineResult {
+	penaltyI10BFGSAnalyticTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return penaltyI10BFGSAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: penaltyI10BFGSAnalyticSearchAccepted}
+}
+
+// penaltyI10BFGSAnalyticTrialPoint is x + t·d.
+func penaltyI10BFGSAnalyticTrialPoint(out, x *[10]float64, t float64, d *[10]float64, b *penaltyI10BFGSAnalyticBox) {
+	penaltyI10BFGSAnalyticMoveTo(out, x, t, d)
 }
 
 // penaltyI10BFGSAnalyticMoveTo sets out = x + t·d.
@@ -895,21 +979,6 @@ func penaltyI10BFGSAnalyticModelMinimizer(a, b *penaltyI10BFGSAnalyticLinePoint)
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, penaltyI10BFGSAnalyticFinite(t)
-}
-
-// penaltyI10BFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func penaltyI10BFGSAnalyticClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // penaltyI10BFGSAnalyticExpandTrial picks a larger trial after current met sufficient decrease

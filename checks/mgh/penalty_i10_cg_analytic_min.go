@@ -88,6 +88,9 @@ func PenaltyI10CGAnalyticDefaultLimits() PenaltyI10CGAnalyticLimits {
 	}
 }
 
+// penaltyI10CGAnalyticBox is empty: mgh.toml sets no bounds on PenaltyI10CGAnalytic.
+type penaltyI10CGAnalyticBox struct{}
+
 // PenaltyI10CGAnalytic minimizes PenaltyI10 from x0, as mgh.toml specifies.
 //
 // Direction cg: nonlinear conjugate gradients, Polak–Ribière clipped at zero (PR+), restarted every dim steps.
@@ -105,7 +108,7 @@ func PenaltyI10CGAnalytic(x0 [10]float64) PenaltyI10CGAnalyticResult {
 
 // PenaltyI10CGAnalyticWithLimits is PenaltyI10CGAnalytic with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func PenaltyI10CGAnalyticWithLimits(x0 [10]float64, limits PenaltyI10CGAnalyticLimits) PenaltyI10CGAnalyticResult {
-	out := penaltyI10CGAnalyticMinimize(x0, limits)
+	out := penaltyI10CGAnalyticMinimize(x0, limits, penaltyI10CGAnalyticBox{})
 	return PenaltyI10CGAnalyticResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func penaltyI10CGAnalyticMinimize(x0 [10]float64, lim PenaltyI10CGAnalyticLimits) penaltyI10CGAnalyticOutcome {
-	out := penaltyI10CGAnalyticOutcome{x: x0, status: PenaltyI10CGAnalyticOutOfEvaluations, gradient: math.NaN()}
+func penaltyI10CGAnalyticMinimize(x0 [10]float64, lim PenaltyI10CGAnalyticLimits, bounds penaltyI10CGAnalyticBox) penaltyI10CGAnalyticOutcome {
+	x := x0
+	penaltyI10CGAnalyticEnterBox(&x, &bounds)
+	out := penaltyI10CGAnalyticOutcome{x: x, status: PenaltyI10CGAnalyticOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := PenaltyI10(&x)
 	out.f, out.evaluations = fx, 1
 	if !penaltyI10CGAnalyticFinite(fx) || !penaltyI10CGAnalyticFiniteVec(&x) {
 		out.status = PenaltyI10CGAnalyticNonFiniteStart
 		return out
 	}
-	var diffs penaltyI10CGAnalyticDifferences
+	diffs := penaltyI10CGAnalyticDifferences{bounds: bounds}
 	calls, ok := penaltyI10CGAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+penaltyI10CGAnalyticDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [10]float64
-	penaltyI10CGAnalyticDerivative(&x, fx, &g, &diffs)
-	out.evaluations += penaltyI10CGAnalyticDerivativeCost
+	out.evaluations += penaltyI10CGAnalyticDerivative(&x, fx, &g, &diffs)
 
 	if !penaltyI10CGAnalyticFiniteVec(&g) {
 		out.status = PenaltyI10CGAnalyticNonFiniteGradient
@@ -211,7 +214,7 @@ func penaltyI10CGAnalyticMinimize(x0 [10]float64, lim PenaltyI10CGAnalyticLimits
 		case !confirmed:
 			penaltyI10CGAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := penaltyI10CGAnalyticGradientMeasure(&g, &e, &x, fx)
+		measure, floor := penaltyI10CGAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, penaltyI10CGAnalyticLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func penaltyI10CGAnalyticMinimize(x0 [10]float64, lim PenaltyI10CGAnalyticLimits
 			if rises >= 8 {
 				return best.ending(PenaltyI10CGAnalyticDiverged, out.iterations, out.evaluations)
 			}
+			penaltyI10CGAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(PenaltyI10CGAnalyticOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		penaltyI10CGAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := penaltyI10CGAnalyticDot(&g, &d)
 		if !(now < 0) || !penaltyI10CGAnalyticFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			penaltyI10CGAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = penaltyI10CGAnalyticDot(&g, &d)
 		}
 		first := float64(penaltyI10CGAnalyticStepInitial)
@@ -267,7 +271,7 @@ func penaltyI10CGAnalyticMinimize(x0 [10]float64, lim PenaltyI10CGAnalyticLimits
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := penaltyI10CGAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := penaltyI10CGAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := penaltyI10CGAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case penaltyI10CGAnalyticSearchOutOfBudget:
@@ -303,8 +307,7 @@ func penaltyI10CGAnalyticMinimize(x0 [10]float64, lim PenaltyI10CGAnalyticLimits
 				}
 				return best.ending(PenaltyI10CGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			penaltyI10CGAnalyticDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += penaltyI10CGAnalyticDerivativeCost
+			out.evaluations += penaltyI10CGAnalyticDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		penaltyI10CGAnalyticDifference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o penaltyI10CGAnalyticOutcome) ending(end PenaltyI10CGAnalyticStatus, iter
 	return o
 }
 
+// penaltyI10CGAnalyticEnterBox: without bounds every start is inside.
+func penaltyI10CGAnalyticEnterBox(x *[10]float64, b *penaltyI10CGAnalyticBox) {}
+
 // penaltyI10CGAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func penaltyI10CGAnalyticFiniteVec(x *[10]float64) bool {
 	return true
 }
 
-// penaltyI10CGAnalyticDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// penaltyI10CGAnalyticDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type penaltyI10CGAnalyticDifferences struct {
 	ratio     [10]float64
 	curvature [10]float64
 	second    [10]float64 // |f″| along e_i, for the rounding floor of a stall (see penaltyI10CGAnalyticRoundingFloor)
+	bounds    penaltyI10CGAnalyticBox
 }
 
 // penaltyI10CGAnalyticCalibrate: an analytic gradient needs no intervals.
@@ -384,8 +392,9 @@ func penaltyI10CGAnalyticCalibrate(x *[10]float64, fx float64, diffs *penaltyI10
 }
 
 // penaltyI10CGAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func penaltyI10CGAnalyticDerivative(x *[10]float64, fx float64, g *[10]float64, diffs *penaltyI10CGAnalyticDifferences) {
+func penaltyI10CGAnalyticDerivative(x *[10]float64, fx float64, g *[10]float64, diffs *penaltyI10CGAnalyticDifferences) int {
 	PenaltyI10Grad(x, g)
+	return 0
 }
 
 // penaltyI10CGAnalyticDirection is nonlinear conjugate gradients with the Polak–Ribière
@@ -517,13 +526,13 @@ func penaltyI10CGAnalyticConfirmGradient(x *[10]float64, fx float64, g, e *[10]f
 		wide.ratio[i] *= 2
 	}
 	var doubled [10]float64
-	penaltyI10CGAnalyticDerivative(x, fx, g, diffs)
-	penaltyI10CGAnalyticDerivative(x, fx, &doubled, &wide)
+	calls += penaltyI10CGAnalyticDerivative(x, fx, g, diffs)
+	calls += penaltyI10CGAnalyticDerivative(x, fx, &doubled, &wide)
 	penaltyI10CGAnalyticGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * penaltyI10CGAnalyticAbs(g[i]-doubled[i])
 	}
-	return calls + 2*penaltyI10CGAnalyticDerivativeCost, true
+	return calls, true
 }
 
 // penaltyI10CGAnalyticGradientError: the analytic gradient is taken as exact; its error is
@@ -565,23 +574,70 @@ func penaltyI10CGAnalyticDiagonalCurvature(x, g *[10]float64, diffs *penaltyI10C
 	var moved [10]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := penaltyI10CGAnalyticProbeStep(xi, penaltyI10CGAnalyticSquareRoot(penaltyI10CGAnalyticUnitRoundoff)*penaltyI10CGAnalyticLarger(1, penaltyI10CGAnalyticAbs(xi)))
-		probe[i] = up
-		PenaltyI10Grad(&probe, &moved)
-		h[i] = penaltyI10CGAnalyticAbs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := penaltyI10CGAnalyticCoordinateRange(i, diffs)
+		up, delta := penaltyI10CGAnalyticProbeStep(xi, penaltyI10CGAnalyticOneSide(xi, penaltyI10CGAnalyticSquareRoot(penaltyI10CGAnalyticUnitRoundoff)*penaltyI10CGAnalyticLarger(1, penaltyI10CGAnalyticAbs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			PenaltyI10Grad(&probe, &moved)
+			h[i] = penaltyI10CGAnalyticAbs(moved[i]-g[i]) / penaltyI10CGAnalyticAbs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// penaltyI10CGAnalyticProbeStep returns x_i moved by h, and the step actually representable.
-func penaltyI10CGAnalyticProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// penaltyI10CGAnalyticCoordinateRange: without bounds any probe is allowed.
+func penaltyI10CGAnalyticCoordinateRange(i int, diffs *penaltyI10CGAnalyticDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// penaltyI10CGAnalyticProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func penaltyI10CGAnalyticProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := penaltyI10CGAnalyticClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// penaltyI10CGAnalyticClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func penaltyI10CGAnalyticClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// penaltyI10CGAnalyticOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func penaltyI10CGAnalyticOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // penaltyI10CGAnalyticSquareRoot returns √v.
 func penaltyI10CGAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// penaltyI10CGAnalyticStationarity measures the gradient itself.
+func penaltyI10CGAnalyticStationarity(g, e, x *[10]float64, fx float64, b *penaltyI10CGAnalyticBox) (measure, floor float64) {
+	return penaltyI10CGAnalyticGradientMeasure(g, e, x, fx)
 }
 
 // penaltyI10CGAnalyticGradientMeasure is the scale-free measure
@@ -617,6 +673,14 @@ func penaltyI10CGAnalyticStepWithin(s, x *[10]float64, tol float64) bool {
 	return true
 }
 
+// penaltyI10CGAnalyticCurvaturePair: without bounds the pair is used as it is.
+func penaltyI10CGAnalyticCurvaturePair(s, y, x *[10]float64, b *penaltyI10CGAnalyticBox) {}
+
+// penaltyI10CGAnalyticSearchDirection is the direction's own.
+func penaltyI10CGAnalyticSearchDirection(dir *penaltyI10CGAnalyticDirection, x, g, d *[10]float64, b *penaltyI10CGAnalyticBox) {
+	dir.compute(g, d)
+}
+
 // penaltyI10CGAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func penaltyI10CGAnalyticTinyStep(x, d *[10]float64, tol float64) float64 {
@@ -644,7 +708,10 @@ func penaltyI10CGAnalyticTinyStep(x, d *[10]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (penaltyI10CGAnalyticStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -653,13 +720,17 @@ func penaltyI10CGAnalyticTinyStep(x, d *[10]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func penaltyI10CGAnalyticLineSearch(x *[10]float64, fx float64, d *[10]float64, slope, first, tiny float64, budget int, xt, gt *[10]float64, diffs *penaltyI10CGAnalyticDifferences) penaltyI10CGAnalyticLineResult {
+func penaltyI10CGAnalyticLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first, tiny float64, budget int, xt, gt *[10]float64, diffs *penaltyI10CGAnalyticDifferences) penaltyI10CGAnalyticLineResult {
 	low := penaltyI10CGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyI10CGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                   // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend penaltyI10CGAnalyticRiseTrend // of the trials failing sufficient decrease
+	var trend penaltyI10CGAnalyticRiseTrend                         // of the trials failing sufficient decrease
+	limit := penaltyI10CGAnalyticStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < penaltyI10CGAnalyticStepTrials; trial++ {
 		if bracketed && penaltyI10CGAnalyticAbs(high.step-low.step) <= tiny {
@@ -669,12 +740,12 @@ func penaltyI10CGAnalyticLineSearch(x *[10]float64, fx float64, d *[10]float64, 
 			if low.step == 0 {
 				return penaltyI10CGAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: penaltyI10CGAnalyticTinyOrExhausted(penaltyI10CGAnalyticFinite(high.value))}
 			}
-			return penaltyI10CGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return penaltyI10CGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return penaltyI10CGAnalyticLineResult{calls: calls, end: penaltyI10CGAnalyticSearchOutOfBudget}
 		}
-		penaltyI10CGAnalyticMoveTo(xt, x, t, d)
+		penaltyI10CGAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := penaltyI10CGAnalyticLinePoint{step: t, value: PenaltyI10(xt)}
 		calls++
 		previous := low
@@ -685,8 +756,7 @@ func penaltyI10CGAnalyticLineSearch(x *[10]float64, fx float64, d *[10]float64, 
 			if calls+penaltyI10CGAnalyticDerivativeCost > budget {
 				return penaltyI10CGAnalyticLineResult{calls: calls, end: penaltyI10CGAnalyticSearchOutOfBudget}
 			}
-			penaltyI10CGAnalyticDerivative(xt, current.value, gt, diffs)
-			calls += penaltyI10CGAnalyticDerivativeCost
+			calls += penaltyI10CGAnalyticDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = penaltyI10CGAnalyticDot(gt, d), true
 			switch {
 			case !penaltyI10CGAnalyticFinite(current.slope):
@@ -697,18 +767,22 @@ func penaltyI10CGAnalyticLineSearch(x *[10]float64, fx float64, d *[10]float64, 
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return penaltyI10CGAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: penaltyI10CGAnalyticSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = penaltyI10CGAnalyticZoomTrial(&low, &high)
-		} else {
-			t = penaltyI10CGAnalyticExpandTrial(&previous, &current)
+		} else if t = penaltyI10CGAnalyticExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return penaltyI10CGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return penaltyI10CGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return penaltyI10CGAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: penaltyI10CGAnalyticSearchExhausted}
 }
@@ -795,6 +869,11 @@ func penaltyI10CGAnalyticFaithfulStep(x, xt, d *[10]float64, t float64) bool {
 	return true
 }
 
+// penaltyI10CGAnalyticStepCap: without bounds a step may be as long as the search wants.
+func penaltyI10CGAnalyticStepCap(x, d *[10]float64, tiny float64, b *penaltyI10CGAnalyticBox) float64 {
+	return math.Inf(1)
+}
+
 // penaltyI10CGAnalyticTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -819,10 +898,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func penaltyI10CGAnalyticAcceptLow(x, d *[10]float64, low *penaltyI10CGAnalyticLinePoint, lowGradient *[10]float64, calls int, xt, gt *[10]float64) penaltyI10CGAnalyticLineResult {
-	penaltyI10CGAnalyticMoveTo(xt, x, low.step, d)
+func penaltyI10CGAnalyticAcceptLow(x, d *[10]float64, low *penaltyI10CGAnalyticLinePoint, lowGradient *[10]float64, calls int, xt, gt *[10]float64, diffs *penaltyI10CGAnalyticDifferences) penaltyI10CGAnalyticLineResult {
+	penaltyI10CGAnalyticTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return penaltyI10CGAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: penaltyI10CGAnalyticSearchAccepted}
+}
+
+// penaltyI10CGAnalyticTrialPoint is x + t·d.
+func penaltyI10CGAnalyticTrialPoint(out, x *[10]float64, t float64, d *[10]float64, b *penaltyI10CGAnalyticBox) {
+	penaltyI10CGAnalyticMoveTo(out, x, t, d)
 }
 
 // penaltyI10CGAnalyticMoveTo sets out = x + t·d.
@@ -877,21 +961,6 @@ func penaltyI10CGAnalyticModelMinimizer(a, b *penaltyI10CGAnalyticLinePoint) (t 
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, penaltyI10CGAnalyticFinite(t)
-}
-
-// penaltyI10CGAnalyticClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func penaltyI10CGAnalyticClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // penaltyI10CGAnalyticExpandTrial picks a larger trial after current met sufficient decrease

@@ -88,6 +88,9 @@ func PenaltyI10CGCentralDefaultLimits() PenaltyI10CGCentralLimits {
 	}
 }
 
+// penaltyI10CGCentralBox is empty: mgh.toml sets no bounds on PenaltyI10CGCentral.
+type penaltyI10CGCentralBox struct{}
+
 // PenaltyI10CGCentral minimizes PenaltyI10 from x0, as mgh.toml specifies.
 //
 // Direction cg: nonlinear conjugate gradients, Polak–Ribière clipped at zero (PR+), restarted every dim steps.
@@ -105,7 +108,7 @@ func PenaltyI10CGCentral(x0 [10]float64) PenaltyI10CGCentralResult {
 
 // PenaltyI10CGCentralWithLimits is PenaltyI10CGCentral with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func PenaltyI10CGCentralWithLimits(x0 [10]float64, limits PenaltyI10CGCentralLimits) PenaltyI10CGCentralResult {
-	out := penaltyI10CGCentralMinimize(x0, limits)
+	out := penaltyI10CGCentralMinimize(x0, limits, penaltyI10CGCentralBox{})
 	return PenaltyI10CGCentralResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func penaltyI10CGCentralMinimize(x0 [10]float64, lim PenaltyI10CGCentralLimits) penaltyI10CGCentralOutcome {
-	out := penaltyI10CGCentralOutcome{x: x0, status: PenaltyI10CGCentralOutOfEvaluations, gradient: math.NaN()}
+func penaltyI10CGCentralMinimize(x0 [10]float64, lim PenaltyI10CGCentralLimits, bounds penaltyI10CGCentralBox) penaltyI10CGCentralOutcome {
+	x := x0
+	penaltyI10CGCentralEnterBox(&x, &bounds)
+	out := penaltyI10CGCentralOutcome{x: x, status: PenaltyI10CGCentralOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := PenaltyI10(&x)
 	out.f, out.evaluations = fx, 1
 	if !penaltyI10CGCentralFinite(fx) || !penaltyI10CGCentralFiniteVec(&x) {
 		out.status = PenaltyI10CGCentralNonFiniteStart
 		return out
 	}
-	var diffs penaltyI10CGCentralDifferences
+	diffs := penaltyI10CGCentralDifferences{bounds: bounds}
 	calls, ok := penaltyI10CGCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+penaltyI10CGCentralDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [10]float64
-	penaltyI10CGCentralDerivative(&x, fx, &g, &diffs)
-	out.evaluations += penaltyI10CGCentralDerivativeCost
+	out.evaluations += penaltyI10CGCentralDerivative(&x, fx, &g, &diffs)
 
 	if !penaltyI10CGCentralFiniteVec(&g) {
 		out.status = PenaltyI10CGCentralNonFiniteGradient
@@ -211,7 +214,7 @@ func penaltyI10CGCentralMinimize(x0 [10]float64, lim PenaltyI10CGCentralLimits) 
 		case !confirmed:
 			penaltyI10CGCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := penaltyI10CGCentralGradientMeasure(&g, &e, &x, fx)
+		measure, floor := penaltyI10CGCentralStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, penaltyI10CGCentralLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func penaltyI10CGCentralMinimize(x0 [10]float64, lim PenaltyI10CGCentralLimits) 
 			if rises >= 8 {
 				return best.ending(PenaltyI10CGCentralDiverged, out.iterations, out.evaluations)
 			}
+			penaltyI10CGCentralCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(PenaltyI10CGCentralOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		penaltyI10CGCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := penaltyI10CGCentralDot(&g, &d)
 		if !(now < 0) || !penaltyI10CGCentralFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			penaltyI10CGCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = penaltyI10CGCentralDot(&g, &d)
 		}
 		first := float64(penaltyI10CGCentralStepInitial)
@@ -267,7 +271,7 @@ func penaltyI10CGCentralMinimize(x0 [10]float64, lim PenaltyI10CGCentralLimits) 
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := penaltyI10CGCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := penaltyI10CGCentralLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := penaltyI10CGCentralLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case penaltyI10CGCentralSearchOutOfBudget:
@@ -303,8 +307,7 @@ func penaltyI10CGCentralMinimize(x0 [10]float64, lim PenaltyI10CGCentralLimits) 
 				}
 				return best.ending(PenaltyI10CGCentralOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			penaltyI10CGCentralDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += penaltyI10CGCentralDerivativeCost
+			out.evaluations += penaltyI10CGCentralDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		penaltyI10CGCentralDifference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o penaltyI10CGCentralOutcome) ending(end PenaltyI10CGCentralStatus, iterat
 	return o
 }
 
+// penaltyI10CGCentralEnterBox: without bounds every start is inside.
+func penaltyI10CGCentralEnterBox(x *[10]float64, b *penaltyI10CGCentralBox) {}
+
 // penaltyI10CGCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func penaltyI10CGCentralFiniteVec(x *[10]float64) bool {
 	return true
 }
 
-// penaltyI10CGCentralDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// penaltyI10CGCentralDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type penaltyI10CGCentralDifferences struct {
 	ratio     [10]float64
 	curvature [10]float64
 	second    [10]float64 // |f″| along e_i, for the rounding floor of a stall (see penaltyI10CGCentralRoundingFloor)
+	bounds    penaltyI10CGCentralBox
 }
 
 // penaltyI10CGCentralCalibrate chooses each central-difference interval from the
@@ -397,19 +405,45 @@ func penaltyI10CGCentralCalibrate(x *[10]float64, fx float64, diffs *penaltyI10C
 	var slope [10]float64
 	scale := penaltyI10CGCentralAbs(fx)
 	quarter := penaltyI10CGCentralSquareRoot(penaltyI10CGCentralSquareRoot(penaltyI10CGCentralUnitRoundoff)) // u^(1/4)
+	calls := 0
 	for i := range probe {
-		if 4*(i+1) > budget {
-			return 4 * i, false
+		if calls+4 > budget {
+			return calls, false
 		}
 		xi := probe[i]
 		bar := quarter * penaltyI10CGCentralLarger(1, penaltyI10CGCentralAbs(xi))
+		lower, upper := penaltyI10CGCentralCoordinateRange(i, diffs)
+		if xi+2*bar > upper || xi-2*bar < lower {
+			// At a bound: three probes on the side with room, at h, 2h
+			// and 3h, for f‴ ≈ (f(3h) − 3f(2h) + 3f(h) − f(0))/h³ (the
+			// third forward difference).
+			h := penaltyI10CGCentralOneSide(xi, bar, 3, lower, upper)
+			if h == 0 {
+				continue // fixed by equal bounds
+			}
+			var f [3]float64
+			for k := range f {
+				probe[i], _ = penaltyI10CGCentralProbeStep(xi, float64(k+1)*h, lower, upper)
+				f[k] = PenaltyI10(&probe)
+				scale = penaltyI10CGCentralLarger(scale, penaltyI10CGCentralMagnitude(f[k]))
+			}
+			probe[i] = xi
+			calls += 3
+			if penaltyI10CGCentralFinite(f[0]) && penaltyI10CGCentralFinite(f[1]) && penaltyI10CGCentralFinite(f[2]) {
+				diffs.curvature[i] = penaltyI10CGCentralAbs(f[2]-3*f[1]+3*f[0]-fx) / penaltyI10CGCentralAbs(h*h*h)
+				diffs.second[i] = penaltyI10CGCentralAbs(fx-2*f[0]+f[1]) / (h * h)
+				slope[i] = (-3*fx + 4*f[0] - f[1]) / (2 * h)
+			}
+			continue
+		}
 		var f [4]float64
 		for k, m := range [4]float64{2, 1, -1, -2} {
-			probe[i], _ = penaltyI10CGCentralProbeStep(xi, m*bar)
+			probe[i], _ = penaltyI10CGCentralProbeStep(xi, m*bar, lower, upper)
 			f[k] = PenaltyI10(&probe)
 			scale = penaltyI10CGCentralLarger(scale, penaltyI10CGCentralMagnitude(f[k]))
 		}
 		probe[i] = xi
+		calls += 4
 		if penaltyI10CGCentralFinite(f[0]) && penaltyI10CGCentralFinite(f[1]) && penaltyI10CGCentralFinite(f[2]) && penaltyI10CGCentralFinite(f[3]) {
 			diffs.curvature[i] = penaltyI10CGCentralAbs(f[0]-2*f[1]+2*f[2]-f[3]) / (2 * bar * bar * bar)
 			diffs.second[i] = penaltyI10CGCentralAbs(f[1]-2*fx+f[2]) / (bar * bar)
@@ -428,7 +462,7 @@ func penaltyI10CGCentralCalibrate(x *[10]float64, fx float64, diffs *penaltyI10C
 		diffs.ratio[i] = penaltyI10CGCentralClampBetween(h, 64*penaltyI10CGCentralUnitRoundoff*s, bar) / s
 		diffs.curvature[i] = third
 	}
-	return 4 * len(probe), true
+	return calls, true
 }
 
 // penaltyI10CGCentralAbs returns |v|.
@@ -454,10 +488,48 @@ func penaltyI10CGCentralLarger(a, b float64) float64 {
 	return b
 }
 
-// penaltyI10CGCentralProbeStep returns x_i moved by h, and the step actually representable.
-func penaltyI10CGCentralProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// penaltyI10CGCentralCoordinateRange: without bounds any probe is allowed.
+func penaltyI10CGCentralCoordinateRange(i int, diffs *penaltyI10CGCentralDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// penaltyI10CGCentralOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func penaltyI10CGCentralOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
+}
+
+// penaltyI10CGCentralProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func penaltyI10CGCentralProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := penaltyI10CGCentralClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// penaltyI10CGCentralClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func penaltyI10CGCentralClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
 }
 
 // penaltyI10CGCentralMagnitude is |v| for a finite v and 0 otherwise: a probe that fell
@@ -493,42 +565,85 @@ func penaltyI10CGCentralCubeRoot(v float64) float64 {
 	return math.Cbrt(v)
 }
 
-// penaltyI10CGCentralClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func penaltyI10CGCentralClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
-}
-
 // penaltyI10CGCentralDerivative approximates the gradient by central differences,
 //
 //	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),
 //
 // with the intervals penaltyI10CGCentralCalibrate chose, h_i = ratio_i·max(1, |x_i|)
-// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls; fx is
-// not needed.
-func penaltyI10CGCentralDerivative(x *[10]float64, fx float64, g *[10]float64, diffs *penaltyI10CGCentralDifferences) {
+// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls. Where
+// a bound leaves no room on one side, the three-point endpoint formula on
+// the other side takes its place at the same cost (see parabola); a
+// variable fixed by equal bounds costs nothing and gets 0.
+func penaltyI10CGCentralDerivative(x *[10]float64, fx float64, g *[10]float64, diffs *penaltyI10CGCentralDifferences) int {
 	probe := *x
+	calls := 0
 	for i := range probe {
 		xi := probe[i]
-		h := diffs.ratio[i] * penaltyI10CGCentralLarger(1, penaltyI10CGCentralAbs(xi))
-		up, _ := penaltyI10CGCentralProbeStep(xi, h)
-		down, _ := penaltyI10CGCentralProbeStep(xi, -h)
-		probe[i] = up
-		fUp := PenaltyI10(&probe)
-		probe[i] = down
-		fDown := PenaltyI10(&probe)
-		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
-		probe[i] = xi
+		h, oneSided := penaltyI10CGCentralCentralInterval(x, i, diffs)
+		lower, upper := penaltyI10CGCentralCoordinateRange(i, diffs)
+		switch {
+		case h == 0:
+			g[i] = 0 // fixed by equal bounds
+			continue
+		case oneSided:
+			g[i], _, _ = penaltyI10CGCentralSidedProbes(&probe, i, fx, h, lower, upper) // the three-point endpoint formula
+		default:
+			up, _ := penaltyI10CGCentralProbeStep(xi, h, lower, upper)
+			down, _ := penaltyI10CGCentralProbeStep(xi, -h, lower, upper)
+			probe[i] = up
+			fUp := PenaltyI10(&probe)
+			probe[i] = down
+			fDown := PenaltyI10(&probe)
+			g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+			probe[i] = xi
+		}
+		calls += 2
 	}
+	return calls
+}
+
+// penaltyI10CGCentralCentralInterval is the interval of coordinate i at x, ratio_i·max(1,
+// |x_i|), and whether the box leaves room for probes on both sides; when
+// it does not, the interval is signed towards the side with room for
+// probes at h and 2h, and shortened where the box is narrower than that
+// (see penaltyI10CGCentralOneSide).
+func penaltyI10CGCentralCentralInterval(x *[10]float64, i int, diffs *penaltyI10CGCentralDifferences) (h float64, oneSided bool) {
+	lower, upper := penaltyI10CGCentralCoordinateRange(i, diffs)
+	h = diffs.ratio[i] * penaltyI10CGCentralLarger(1, penaltyI10CGCentralAbs(x[i]))
+	if x[i]+h <= upper && x[i]-h >= lower {
+		return h, false
+	}
+	return penaltyI10CGCentralOneSide(x[i], h, 2, lower, upper), true
+}
+
+// penaltyI10CGCentralSidedProbes evaluates f at x moved along coordinate i by h and by 2h,
+// kept within [lower, upper], and returns the slope and second derivative
+// of the parabola through them and (x, fx) (see parabola), and the larger
+// magnitude of the two values.
+func penaltyI10CGCentralSidedProbes(probe *[10]float64, i int, fx, h, lower, upper float64) (slope, second, size float64) {
+	xi := probe[i]
+	near, a := penaltyI10CGCentralProbeStep(xi, h, lower, upper)
+	far, b := penaltyI10CGCentralProbeStep(xi, 2*h, lower, upper)
+	probe[i] = near
+	fNear := PenaltyI10(probe)
+	probe[i] = far
+	fFar := PenaltyI10(probe)
+	probe[i] = xi
+	slope, second = penaltyI10CGCentralParabola(fx, a, fNear, b, fFar)
+	return slope, second, penaltyI10CGCentralLarger(penaltyI10CGCentralMagnitude(fNear), penaltyI10CGCentralMagnitude(fFar))
+}
+
+// penaltyI10CGCentralParabola returns the first and second derivatives at 0 of the parabola
+// through (0, f0), (a, fa) and (b, fb), for probes on one side of a bound.
+// With b = 2a they are the three-point endpoint formulas
+// f′ ≈ (−3f0 + 4fa − fb)/(2a), error a²|f‴|/3, and
+// f″ ≈ (f0 − 2fa + fb)/a² (Burden & Faires, Numerical Analysis, §4.1
+// and §4.1's second-derivative formulas, from memory); written for unequal
+// a and b, so that the representable steps can be used.
+func penaltyI10CGCentralParabola(f0, a, fa, b, fb float64) (slope, second float64) {
+	slope = -(a+b)/(a*b)*f0 + b/(a*(b-a))*fa - a/(b*(b-a))*fb
+	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
+	return slope, second
 }
 
 // penaltyI10CGCentralDirection is nonlinear conjugate gradients with the Polak–Ribière
@@ -650,13 +765,13 @@ func penaltyI10CGCentralConfirmGradient(x *[10]float64, fx float64, g, e *[10]fl
 		wide.ratio[i] *= 2
 	}
 	var doubled [10]float64
-	penaltyI10CGCentralDerivative(x, fx, g, diffs)
-	penaltyI10CGCentralDerivative(x, fx, &doubled, &wide)
+	calls += penaltyI10CGCentralDerivative(x, fx, g, diffs)
+	calls += penaltyI10CGCentralDerivative(x, fx, &doubled, &wide)
 	penaltyI10CGCentralGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * penaltyI10CGCentralAbs(g[i]-doubled[i])
 	}
-	return calls + 2*penaltyI10CGCentralDerivativeCost, true
+	return calls, true
 }
 
 // penaltyI10CGCentralGradientError bounds each central difference's error by twice its
@@ -666,8 +781,16 @@ func penaltyI10CGCentralConfirmGradient(x *[10]float64, fx float64, g, e *[10]fl
 func penaltyI10CGCentralGradientError(x *[10]float64, fx float64, g, e *[10]float64, diffs *penaltyI10CGCentralDifferences) {
 	noise := penaltyI10CGCentralNoiseLevel(x, fx, g)
 	for i := range e {
-		h := diffs.ratio[i] * penaltyI10CGCentralLarger(1, penaltyI10CGCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		h, oneSided := penaltyI10CGCentralCentralInterval(x, i, diffs)
+		h = penaltyI10CGCentralAbs(h)
+		switch {
+		case h == 0:
+			e[i] = 0 // fixed by equal bounds
+		case oneSided:
+			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+		default:
+			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		}
 	}
 }
 
@@ -689,6 +812,11 @@ func penaltyI10CGCentralRoundingFloor(x, g, e *[10]float64, diffs *penaltyI10CGC
 // calibration, which penaltyI10CGCentralConfirmGradient has just made at x.
 func penaltyI10CGCentralDiagonalCurvature(x, g *[10]float64, diffs *penaltyI10CGCentralDifferences, h *[10]float64) {
 	*h = diffs.second
+}
+
+// penaltyI10CGCentralStationarity measures the gradient itself.
+func penaltyI10CGCentralStationarity(g, e, x *[10]float64, fx float64, b *penaltyI10CGCentralBox) (measure, floor float64) {
+	return penaltyI10CGCentralGradientMeasure(g, e, x, fx)
 }
 
 // penaltyI10CGCentralGradientMeasure is the scale-free measure
@@ -724,6 +852,14 @@ func penaltyI10CGCentralStepWithin(s, x *[10]float64, tol float64) bool {
 	return true
 }
 
+// penaltyI10CGCentralCurvaturePair: without bounds the pair is used as it is.
+func penaltyI10CGCentralCurvaturePair(s, y, x *[10]float64, b *penaltyI10CGCentralBox) {}
+
+// penaltyI10CGCentralSearchDirection is the direction's own.
+func penaltyI10CGCentralSearchDirection(dir *penaltyI10CGCentralDirection, x, g, d *[10]float64, b *penaltyI10CGCentralBox) {
+	dir.compute(g, d)
+}
+
 // penaltyI10CGCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func penaltyI10CGCentralTinyStep(x, d *[10]float64, tol float64) float64 {
@@ -751,7 +887,10 @@ func penaltyI10CGCentralTinyStep(x, d *[10]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (penaltyI10CGCentralStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -760,13 +899,17 @@ func penaltyI10CGCentralTinyStep(x, d *[10]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func penaltyI10CGCentralLineSearch(x *[10]float64, fx float64, d *[10]float64, slope, first, tiny float64, budget int, xt, gt *[10]float64, diffs *penaltyI10CGCentralDifferences) penaltyI10CGCentralLineResult {
+func penaltyI10CGCentralLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first, tiny float64, budget int, xt, gt *[10]float64, diffs *penaltyI10CGCentralDifferences) penaltyI10CGCentralLineResult {
 	low := penaltyI10CGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyI10CGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                  // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend penaltyI10CGCentralRiseTrend // of the trials failing sufficient decrease
+	var trend penaltyI10CGCentralRiseTrend                         // of the trials failing sufficient decrease
+	limit := penaltyI10CGCentralStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < penaltyI10CGCentralStepTrials; trial++ {
 		if bracketed && penaltyI10CGCentralAbs(high.step-low.step) <= tiny {
@@ -776,12 +919,12 @@ func penaltyI10CGCentralLineSearch(x *[10]float64, fx float64, d *[10]float64, s
 			if low.step == 0 {
 				return penaltyI10CGCentralLineResult{calls: calls, rising: trend.contradicts(), end: penaltyI10CGCentralTinyOrExhausted(penaltyI10CGCentralFinite(high.value))}
 			}
-			return penaltyI10CGCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return penaltyI10CGCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return penaltyI10CGCentralLineResult{calls: calls, end: penaltyI10CGCentralSearchOutOfBudget}
 		}
-		penaltyI10CGCentralMoveTo(xt, x, t, d)
+		penaltyI10CGCentralTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := penaltyI10CGCentralLinePoint{step: t, value: PenaltyI10(xt)}
 		calls++
 		previous := low
@@ -792,8 +935,7 @@ func penaltyI10CGCentralLineSearch(x *[10]float64, fx float64, d *[10]float64, s
 			if calls+penaltyI10CGCentralDerivativeCost > budget {
 				return penaltyI10CGCentralLineResult{calls: calls, end: penaltyI10CGCentralSearchOutOfBudget}
 			}
-			penaltyI10CGCentralDerivative(xt, current.value, gt, diffs)
-			calls += penaltyI10CGCentralDerivativeCost
+			calls += penaltyI10CGCentralDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = penaltyI10CGCentralDot(gt, d), true
 			switch {
 			case !penaltyI10CGCentralFinite(current.slope):
@@ -804,18 +946,22 @@ func penaltyI10CGCentralLineSearch(x *[10]float64, fx float64, d *[10]float64, s
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return penaltyI10CGCentralLineResult{step: t, value: current.value, calls: calls, gradient: true, end: penaltyI10CGCentralSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = penaltyI10CGCentralZoomTrial(&low, &high)
-		} else {
-			t = penaltyI10CGCentralExpandTrial(&previous, &current)
+		} else if t = penaltyI10CGCentralExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return penaltyI10CGCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return penaltyI10CGCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return penaltyI10CGCentralLineResult{calls: calls, rising: trend.contradicts(), end: penaltyI10CGCentralSearchExhausted}
 }
@@ -902,6 +1048,11 @@ func penaltyI10CGCentralFaithfulStep(x, xt, d *[10]float64, t float64) bool {
 	return true
 }
 
+// penaltyI10CGCentralStepCap: without bounds a step may be as long as the search wants.
+func penaltyI10CGCentralStepCap(x, d *[10]float64, tiny float64, b *penaltyI10CGCentralBox) float64 {
+	return math.Inf(1)
+}
+
 // penaltyI10CGCentralTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -926,10 +1077,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func penaltyI10CGCentralAcceptLow(x, d *[10]float64, low *penaltyI10CGCentralLinePoint, lowGradient *[10]float64, calls int, xt, gt *[10]float64) penaltyI10CGCentralLineResult {
-	penaltyI10CGCentralMoveTo(xt, x, low.step, d)
+func penaltyI10CGCentralAcceptLow(x, d *[10]float64, low *penaltyI10CGCentralLinePoint, lowGradient *[10]float64, calls int, xt, gt *[10]float64, diffs *penaltyI10CGCentralDifferences) penaltyI10CGCentralLineResult {
+	penaltyI10CGCentralTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return penaltyI10CGCentralLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: penaltyI10CGCentralSearchAccepted}
+}
+
+// penaltyI10CGCentralTrialPoint is x + t·d.
+func penaltyI10CGCentralTrialPoint(out, x *[10]float64, t float64, d *[10]float64, b *penaltyI10CGCentralBox) {
+	penaltyI10CGCentralMoveTo(out, x, t, d)
 }
 
 // penaltyI10CGCentralMoveTo sets out = x + t·d.

@@ -88,6 +88,9 @@ func PenaltyI10LBFGSAnalyticDefaultLimits() PenaltyI10LBFGSAnalyticLimits {
 	}
 }
 
+// penaltyI10LBFGSAnalyticBox is empty: mgh.toml sets no bounds on PenaltyI10LBFGSAnalytic.
+type penaltyI10LBFGSAnalyticBox struct{}
+
 // PenaltyI10LBFGSAnalytic minimizes PenaltyI10 from x0, as mgh.toml specifies.
 //
 // Direction lbfgs: limited-memory BFGS: the last `memory` pairs, two-loop recursion (2·memory·dim numbers).
@@ -105,7 +108,7 @@ func PenaltyI10LBFGSAnalytic(x0 [10]float64) PenaltyI10LBFGSAnalyticResult {
 
 // PenaltyI10LBFGSAnalyticWithLimits is PenaltyI10LBFGSAnalytic with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func PenaltyI10LBFGSAnalyticWithLimits(x0 [10]float64, limits PenaltyI10LBFGSAnalyticLimits) PenaltyI10LBFGSAnalyticResult {
-	out := penaltyI10LBFGSAnalyticMinimize(x0, limits)
+	out := penaltyI10LBFGSAnalyticMinimize(x0, limits, penaltyI10LBFGSAnalyticBox{})
 	return PenaltyI10LBFGSAnalyticResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -159,27 +162,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func penaltyI10LBFGSAnalyticMinimize(x0 [10]float64, lim PenaltyI10LBFGSAnalyticLimits) penaltyI10LBFGSAnalyticOutcome {
-	out := penaltyI10LBFGSAnalyticOutcome{x: x0, status: PenaltyI10LBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
+func penaltyI10LBFGSAnalyticMinimize(x0 [10]float64, lim PenaltyI10LBFGSAnalyticLimits, bounds penaltyI10LBFGSAnalyticBox) penaltyI10LBFGSAnalyticOutcome {
+	x := x0
+	penaltyI10LBFGSAnalyticEnterBox(&x, &bounds)
+	out := penaltyI10LBFGSAnalyticOutcome{x: x, status: PenaltyI10LBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := PenaltyI10(&x)
 	out.f, out.evaluations = fx, 1
 	if !penaltyI10LBFGSAnalyticFinite(fx) || !penaltyI10LBFGSAnalyticFiniteVec(&x) {
 		out.status = PenaltyI10LBFGSAnalyticNonFiniteStart
 		return out
 	}
-	var diffs penaltyI10LBFGSAnalyticDifferences
+	diffs := penaltyI10LBFGSAnalyticDifferences{bounds: bounds}
 	calls, ok := penaltyI10LBFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+penaltyI10LBFGSAnalyticDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [10]float64
-	penaltyI10LBFGSAnalyticDerivative(&x, fx, &g, &diffs)
-	out.evaluations += penaltyI10LBFGSAnalyticDerivativeCost
+	out.evaluations += penaltyI10LBFGSAnalyticDerivative(&x, fx, &g, &diffs)
 
 	if !penaltyI10LBFGSAnalyticFiniteVec(&g) {
 		out.status = PenaltyI10LBFGSAnalyticNonFiniteGradient
@@ -212,7 +215,7 @@ func penaltyI10LBFGSAnalyticMinimize(x0 [10]float64, lim PenaltyI10LBFGSAnalytic
 		case !confirmed:
 			penaltyI10LBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := penaltyI10LBFGSAnalyticGradientMeasure(&g, &e, &x, fx)
+		measure, floor := penaltyI10LBFGSAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, penaltyI10LBFGSAnalyticLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -251,16 +254,17 @@ func penaltyI10LBFGSAnalyticMinimize(x0 [10]float64, lim PenaltyI10LBFGSAnalytic
 			if rises >= 8 {
 				return best.ending(PenaltyI10LBFGSAnalyticDiverged, out.iterations, out.evaluations)
 			}
+			penaltyI10LBFGSAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(PenaltyI10LBFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		penaltyI10LBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := penaltyI10LBFGSAnalyticDot(&g, &d)
 		if !(now < 0) || !penaltyI10LBFGSAnalyticFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			penaltyI10LBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = penaltyI10LBFGSAnalyticDot(&g, &d)
 		}
 		first := float64(penaltyI10LBFGSAnalyticStepInitial)
@@ -268,7 +272,7 @@ func penaltyI10LBFGSAnalyticMinimize(x0 [10]float64, lim PenaltyI10LBFGSAnalytic
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := penaltyI10LBFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := penaltyI10LBFGSAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := penaltyI10LBFGSAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case penaltyI10LBFGSAnalyticSearchOutOfBudget:
@@ -304,8 +308,7 @@ func penaltyI10LBFGSAnalyticMinimize(x0 [10]float64, lim PenaltyI10LBFGSAnalytic
 				}
 				return best.ending(PenaltyI10LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			penaltyI10LBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += penaltyI10LBFGSAnalyticDerivativeCost
+			out.evaluations += penaltyI10LBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		penaltyI10LBFGSAnalyticDifference(&s, &xt, &x)
@@ -346,6 +349,9 @@ func (o penaltyI10LBFGSAnalyticOutcome) ending(end PenaltyI10LBFGSAnalyticStatus
 	return o
 }
 
+// penaltyI10LBFGSAnalyticEnterBox: without bounds every start is inside.
+func penaltyI10LBFGSAnalyticEnterBox(x *[10]float64, b *penaltyI10LBFGSAnalyticBox) {}
+
 // penaltyI10LBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -368,15 +374,17 @@ func penaltyI10LBFGSAnalyticFiniteVec(x *[10]float64) bool {
 	return true
 }
 
-// penaltyI10LBFGSAnalyticDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// penaltyI10LBFGSAnalyticDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type penaltyI10LBFGSAnalyticDifferences struct {
 	ratio     [10]float64
 	curvature [10]float64
 	second    [10]float64 // |f″| along e_i, for the rounding floor of a stall (see penaltyI10LBFGSAnalyticRoundingFloor)
+	bounds    penaltyI10LBFGSAnalyticBox
 }
 
 // penaltyI10LBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
@@ -385,8 +393,9 @@ func penaltyI10LBFGSAnalyticCalibrate(x *[10]float64, fx float64, diffs *penalty
 }
 
 // penaltyI10LBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func penaltyI10LBFGSAnalyticDerivative(x *[10]float64, fx float64, g *[10]float64, diffs *penaltyI10LBFGSAnalyticDifferences) {
+func penaltyI10LBFGSAnalyticDerivative(x *[10]float64, fx float64, g *[10]float64, diffs *penaltyI10LBFGSAnalyticDifferences) int {
 	PenaltyI10Grad(x, g)
+	return 0
 }
 
 // penaltyI10LBFGSAnalyticDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
@@ -551,13 +560,13 @@ func penaltyI10LBFGSAnalyticConfirmGradient(x *[10]float64, fx float64, g, e *[1
 		wide.ratio[i] *= 2
 	}
 	var doubled [10]float64
-	penaltyI10LBFGSAnalyticDerivative(x, fx, g, diffs)
-	penaltyI10LBFGSAnalyticDerivative(x, fx, &doubled, &wide)
+	calls += penaltyI10LBFGSAnalyticDerivative(x, fx, g, diffs)
+	calls += penaltyI10LBFGSAnalyticDerivative(x, fx, &doubled, &wide)
 	penaltyI10LBFGSAnalyticGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * penaltyI10LBFGSAnalyticAbs(g[i]-doubled[i])
 	}
-	return calls + 2*penaltyI10LBFGSAnalyticDerivativeCost, true
+	return calls, true
 }
 
 // penaltyI10LBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
@@ -599,18 +608,60 @@ func penaltyI10LBFGSAnalyticDiagonalCurvature(x, g *[10]float64, diffs *penaltyI
 	var moved [10]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := penaltyI10LBFGSAnalyticProbeStep(xi, penaltyI10LBFGSAnalyticSquareRoot(penaltyI10LBFGSAnalyticUnitRoundoff)*penaltyI10LBFGSAnalyticLarger(1, penaltyI10LBFGSAnalyticAbs(xi)))
-		probe[i] = up
-		PenaltyI10Grad(&probe, &moved)
-		h[i] = penaltyI10LBFGSAnalyticAbs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := penaltyI10LBFGSAnalyticCoordinateRange(i, diffs)
+		up, delta := penaltyI10LBFGSAnalyticProbeStep(xi, penaltyI10LBFGSAnalyticOneSide(xi, penaltyI10LBFGSAnalyticSquareRoot(penaltyI10LBFGSAnalyticUnitRoundoff)*penaltyI10LBFGSAnalyticLarger(1, penaltyI10LBFGSAnalyticAbs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			PenaltyI10Grad(&probe, &moved)
+			h[i] = penaltyI10LBFGSAnalyticAbs(moved[i]-g[i]) / penaltyI10LBFGSAnalyticAbs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// penaltyI10LBFGSAnalyticProbeStep returns x_i moved by h, and the step actually representable.
-func penaltyI10LBFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// penaltyI10LBFGSAnalyticCoordinateRange: without bounds any probe is allowed.
+func penaltyI10LBFGSAnalyticCoordinateRange(i int, diffs *penaltyI10LBFGSAnalyticDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// penaltyI10LBFGSAnalyticProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func penaltyI10LBFGSAnalyticProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := penaltyI10LBFGSAnalyticClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// penaltyI10LBFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func penaltyI10LBFGSAnalyticClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// penaltyI10LBFGSAnalyticOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func penaltyI10LBFGSAnalyticOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // penaltyI10LBFGSAnalyticSquareRoot returns √v.
@@ -626,6 +677,11 @@ func penaltyI10LBFGSAnalyticLarger(a, b float64) float64 {
 		return a
 	}
 	return b
+}
+
+// penaltyI10LBFGSAnalyticStationarity measures the gradient itself.
+func penaltyI10LBFGSAnalyticStationarity(g, e, x *[10]float64, fx float64, b *penaltyI10LBFGSAnalyticBox) (measure, floor float64) {
+	return penaltyI10LBFGSAnalyticGradientMeasure(g, e, x, fx)
 }
 
 // penaltyI10LBFGSAnalyticGradientMeasure is the scale-free measure
@@ -661,6 +717,14 @@ func penaltyI10LBFGSAnalyticStepWithin(s, x *[10]float64, tol float64) bool {
 	return true
 }
 
+// penaltyI10LBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
+func penaltyI10LBFGSAnalyticCurvaturePair(s, y, x *[10]float64, b *penaltyI10LBFGSAnalyticBox) {}
+
+// penaltyI10LBFGSAnalyticSearchDirection is the direction's own.
+func penaltyI10LBFGSAnalyticSearchDirection(dir *penaltyI10LBFGSAnalyticDirection, x, g, d *[10]float64, b *penaltyI10LBFGSAnalyticBox) {
+	dir.compute(g, d)
+}
+
 // penaltyI10LBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func penaltyI10LBFGSAnalyticTinyStep(x, d *[10]float64, tol float64) float64 {
@@ -688,7 +752,10 @@ func penaltyI10LBFGSAnalyticTinyStep(x, d *[10]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (penaltyI10LBFGSAnalyticStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -697,13 +764,17 @@ func penaltyI10LBFGSAnalyticTinyStep(x, d *[10]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func penaltyI10LBFGSAnalyticLineSearch(x *[10]float64, fx float64, d *[10]float64, slope, first, tiny float64, budget int, xt, gt *[10]float64, diffs *penaltyI10LBFGSAnalyticDifferences) penaltyI10LBFGSAnalyticLineResult {
+func penaltyI10LBFGSAnalyticLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first, tiny float64, budget int, xt, gt *[10]float64, diffs *penaltyI10LBFGSAnalyticDifferences) penaltyI10LBFGSAnalyticLineResult {
 	low := penaltyI10LBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyI10LBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                      // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend penaltyI10LBFGSAnalyticRiseTrend // of the trials failing sufficient decrease
+	var trend penaltyI10LBFGSAnalyticRiseTrend                         // of the trials failing sufficient decrease
+	limit := penaltyI10LBFGSAnalyticStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < penaltyI10LBFGSAnalyticStepTrials; trial++ {
 		if bracketed && penaltyI10LBFGSAnalyticAbs(high.step-low.step) <= tiny {
@@ -713,12 +784,12 @@ func penaltyI10LBFGSAnalyticLineSearch(x *[10]float64, fx float64, d *[10]float6
 			if low.step == 0 {
 				return penaltyI10LBFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: penaltyI10LBFGSAnalyticTinyOrExhausted(penaltyI10LBFGSAnalyticFinite(high.value))}
 			}
-			return penaltyI10LBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return penaltyI10LBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return penaltyI10LBFGSAnalyticLineResult{calls: calls, end: penaltyI10LBFGSAnalyticSearchOutOfBudget}
 		}
-		penaltyI10LBFGSAnalyticMoveTo(xt, x, t, d)
+		penaltyI10LBFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := penaltyI10LBFGSAnalyticLinePoint{step: t, value: PenaltyI10(xt)}
 		calls++
 		previous := low
@@ -729,8 +800,7 @@ func penaltyI10LBFGSAnalyticLineSearch(x *[10]float64, fx float64, d *[10]float6
 			if calls+penaltyI10LBFGSAnalyticDerivativeCost > budget {
 				return penaltyI10LBFGSAnalyticLineResult{calls: calls, end: penaltyI10LBFGSAnalyticSearchOutOfBudget}
 			}
-			penaltyI10LBFGSAnalyticDerivative(xt, current.value, gt, diffs)
-			calls += penaltyI10LBFGSAnalyticDerivativeCost
+			calls += penaltyI10LBFGSAnalyticDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = penaltyI10LBFGSAnalyticDot(gt, d), true
 			switch {
 			case !penaltyI10LBFGSAnalyticFinite(current.slope):
@@ -741,18 +811,22 @@ func penaltyI10LBFGSAnalyticLineSearch(x *[10]float64, fx float64, d *[10]float6
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return penaltyI10LBFGSAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: penaltyI10LBFGSAnalyticSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = penaltyI10LBFGSAnalyticZoomTrial(&low, &high)
-		} else {
-			t = penaltyI10LBFGSAnalyticExpandTrial(&previous, &current)
+		} else if t = penaltyI10LBFGSAnalyticExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return penaltyI10LBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return penaltyI10LBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return penaltyI10LBFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: penaltyI10LBFGSAnalyticSearchExhausted}
 }
@@ -839,6 +913,11 @@ func penaltyI10LBFGSAnalyticFaithfulStep(x, xt, d *[10]float64, t float64) bool 
 	return true
 }
 
+// penaltyI10LBFGSAnalyticStepCap: without bounds a step may be as long as the search wants.
+func penaltyI10LBFGSAnalyticStepCap(x, d *[10]float64, tiny float64, b *penaltyI10LBFGSAnalyticBox) float64 {
+	return math.Inf(1)
+}
+
 // penaltyI10LBFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -863,10 +942,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func penaltyI10LBFGSAnalyticAcceptLow(x, d *[10]float64, low *penaltyI10LBFGSAnalyticLinePoint, lowGradient *[10]float64, calls int, xt, gt *[10]float64) penaltyI10LBFGSAnalyticLineResult {
-	penaltyI10LBFGSAnalyticMoveTo(xt, x, low.step, d)
+func penaltyI10LBFGSAnalyticAcceptLow(x, d *[10]float64, low *penaltyI10LBFGSAnalyticLinePoint, lowGradient *[10]float64, calls int, xt, gt *[10]float64, diffs *penaltyI10LBFGSAnalyticDifferences) penaltyI10LBFGSAnalyticLineResult {
+	penaltyI10LBFGSAnalyticTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return penaltyI10LBFGSAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: penaltyI10LBFGSAnalyticSearchAccepted}
+}
+
+// penaltyI10LBFGSAnalyticTrialPoint is x + t·d.
+func penaltyI10LBFGSAnalyticTrialPoint(out, x *[10]float64, t float64, d *[10]float64, b *penaltyI10LBFGSAnalyticBox) {
+	penaltyI10LBFGSAnalyticMoveTo(out, x, t, d)
 }
 
 // penaltyI10LBFGSAnalyticMoveTo sets out = x + t·d.
@@ -921,21 +1005,6 @@ func penaltyI10LBFGSAnalyticModelMinimizer(a, b *penaltyI10LBFGSAnalyticLinePoin
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, penaltyI10LBFGSAnalyticFinite(t)
-}
-
-// penaltyI10LBFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func penaltyI10LBFGSAnalyticClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // penaltyI10LBFGSAnalyticExpandTrial picks a larger trial after current met sufficient decrease

@@ -88,6 +88,9 @@ func PenaltyI4BFGSAnalyticDefaultLimits() PenaltyI4BFGSAnalyticLimits {
 	}
 }
 
+// penaltyI4BFGSAnalyticBox is empty: mgh.toml sets no bounds on PenaltyI4BFGSAnalytic.
+type penaltyI4BFGSAnalyticBox struct{}
+
 // PenaltyI4BFGSAnalytic minimizes PenaltyI4 from x0, as mgh.toml specifies.
 //
 // Direction bfgs: BFGS quasi-Newton with a dense inverse-Hessian approximation (dim² numbers).
@@ -105,7 +108,7 @@ func PenaltyI4BFGSAnalytic(x0 [4]float64) PenaltyI4BFGSAnalyticResult {
 
 // PenaltyI4BFGSAnalyticWithLimits is PenaltyI4BFGSAnalytic with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func PenaltyI4BFGSAnalyticWithLimits(x0 [4]float64, limits PenaltyI4BFGSAnalyticLimits) PenaltyI4BFGSAnalyticResult {
-	out := penaltyI4BFGSAnalyticMinimize(x0, limits)
+	out := penaltyI4BFGSAnalyticMinimize(x0, limits, penaltyI4BFGSAnalyticBox{})
 	return PenaltyI4BFGSAnalyticResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func penaltyI4BFGSAnalyticMinimize(x0 [4]float64, lim PenaltyI4BFGSAnalyticLimits) penaltyI4BFGSAnalyticOutcome {
-	out := penaltyI4BFGSAnalyticOutcome{x: x0, status: PenaltyI4BFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
+func penaltyI4BFGSAnalyticMinimize(x0 [4]float64, lim PenaltyI4BFGSAnalyticLimits, bounds penaltyI4BFGSAnalyticBox) penaltyI4BFGSAnalyticOutcome {
+	x := x0
+	penaltyI4BFGSAnalyticEnterBox(&x, &bounds)
+	out := penaltyI4BFGSAnalyticOutcome{x: x, status: PenaltyI4BFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := PenaltyI4(&x)
 	out.f, out.evaluations = fx, 1
 	if !penaltyI4BFGSAnalyticFinite(fx) || !penaltyI4BFGSAnalyticFiniteVec(&x) {
 		out.status = PenaltyI4BFGSAnalyticNonFiniteStart
 		return out
 	}
-	var diffs penaltyI4BFGSAnalyticDifferences
+	diffs := penaltyI4BFGSAnalyticDifferences{bounds: bounds}
 	calls, ok := penaltyI4BFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+penaltyI4BFGSAnalyticDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [4]float64
-	penaltyI4BFGSAnalyticDerivative(&x, fx, &g, &diffs)
-	out.evaluations += penaltyI4BFGSAnalyticDerivativeCost
+	out.evaluations += penaltyI4BFGSAnalyticDerivative(&x, fx, &g, &diffs)
 
 	if !penaltyI4BFGSAnalyticFiniteVec(&g) {
 		out.status = PenaltyI4BFGSAnalyticNonFiniteGradient
@@ -211,7 +214,7 @@ func penaltyI4BFGSAnalyticMinimize(x0 [4]float64, lim PenaltyI4BFGSAnalyticLimit
 		case !confirmed:
 			penaltyI4BFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := penaltyI4BFGSAnalyticGradientMeasure(&g, &e, &x, fx)
+		measure, floor := penaltyI4BFGSAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, penaltyI4BFGSAnalyticLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func penaltyI4BFGSAnalyticMinimize(x0 [4]float64, lim PenaltyI4BFGSAnalyticLimit
 			if rises >= 8 {
 				return best.ending(PenaltyI4BFGSAnalyticDiverged, out.iterations, out.evaluations)
 			}
+			penaltyI4BFGSAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(PenaltyI4BFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		penaltyI4BFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := penaltyI4BFGSAnalyticDot(&g, &d)
 		if !(now < 0) || !penaltyI4BFGSAnalyticFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			penaltyI4BFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = penaltyI4BFGSAnalyticDot(&g, &d)
 		}
 		first := float64(penaltyI4BFGSAnalyticStepInitial)
@@ -267,7 +271,7 @@ func penaltyI4BFGSAnalyticMinimize(x0 [4]float64, lim PenaltyI4BFGSAnalyticLimit
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := penaltyI4BFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := penaltyI4BFGSAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := penaltyI4BFGSAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case penaltyI4BFGSAnalyticSearchOutOfBudget:
@@ -303,8 +307,7 @@ func penaltyI4BFGSAnalyticMinimize(x0 [4]float64, lim PenaltyI4BFGSAnalyticLimit
 				}
 				return best.ending(PenaltyI4BFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			penaltyI4BFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += penaltyI4BFGSAnalyticDerivativeCost
+			out.evaluations += penaltyI4BFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		penaltyI4BFGSAnalyticDifference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o penaltyI4BFGSAnalyticOutcome) ending(end PenaltyI4BFGSAnalyticStatus, it
 	return o
 }
 
+// penaltyI4BFGSAnalyticEnterBox: without bounds every start is inside.
+func penaltyI4BFGSAnalyticEnterBox(x *[4]float64, b *penaltyI4BFGSAnalyticBox) {}
+
 // penaltyI4BFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func penaltyI4BFGSAnalyticFiniteVec(x *[4]float64) bool {
 	return true
 }
 
-// penaltyI4BFGSAnalyticDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// penaltyI4BFGSAnalyticDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type penaltyI4BFGSAnalyticDifferences struct {
 	ratio     [4]float64
 	curvature [4]float64
 	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see penaltyI4BFGSAnalyticRoundingFloor)
+	bounds    penaltyI4BFGSAnalyticBox
 }
 
 // penaltyI4BFGSAnalyticCalibrate: an analytic gradient needs no intervals.
@@ -384,8 +392,9 @@ func penaltyI4BFGSAnalyticCalibrate(x *[4]float64, fx float64, diffs *penaltyI4B
 }
 
 // penaltyI4BFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func penaltyI4BFGSAnalyticDerivative(x *[4]float64, fx float64, g *[4]float64, diffs *penaltyI4BFGSAnalyticDifferences) {
+func penaltyI4BFGSAnalyticDerivative(x *[4]float64, fx float64, g *[4]float64, diffs *penaltyI4BFGSAnalyticDifferences) int {
 	PenaltyI4Grad(x, g)
+	return 0
 }
 
 // penaltyI4BFGSAnalyticDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
@@ -525,13 +534,13 @@ func penaltyI4BFGSAnalyticConfirmGradient(x *[4]float64, fx float64, g, e *[4]fl
 		wide.ratio[i] *= 2
 	}
 	var doubled [4]float64
-	penaltyI4BFGSAnalyticDerivative(x, fx, g, diffs)
-	penaltyI4BFGSAnalyticDerivative(x, fx, &doubled, &wide)
+	calls += penaltyI4BFGSAnalyticDerivative(x, fx, g, diffs)
+	calls += penaltyI4BFGSAnalyticDerivative(x, fx, &doubled, &wide)
 	penaltyI4BFGSAnalyticGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * penaltyI4BFGSAnalyticAbs(g[i]-doubled[i])
 	}
-	return calls + 2*penaltyI4BFGSAnalyticDerivativeCost, true
+	return calls, true
 }
 
 // penaltyI4BFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
@@ -573,18 +582,60 @@ func penaltyI4BFGSAnalyticDiagonalCurvature(x, g *[4]float64, diffs *penaltyI4BF
 	var moved [4]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := penaltyI4BFGSAnalyticProbeStep(xi, penaltyI4BFGSAnalyticSquareRoot(penaltyI4BFGSAnalyticUnitRoundoff)*penaltyI4BFGSAnalyticLarger(1, penaltyI4BFGSAnalyticAbs(xi)))
-		probe[i] = up
-		PenaltyI4Grad(&probe, &moved)
-		h[i] = penaltyI4BFGSAnalyticAbs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := penaltyI4BFGSAnalyticCoordinateRange(i, diffs)
+		up, delta := penaltyI4BFGSAnalyticProbeStep(xi, penaltyI4BFGSAnalyticOneSide(xi, penaltyI4BFGSAnalyticSquareRoot(penaltyI4BFGSAnalyticUnitRoundoff)*penaltyI4BFGSAnalyticLarger(1, penaltyI4BFGSAnalyticAbs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			PenaltyI4Grad(&probe, &moved)
+			h[i] = penaltyI4BFGSAnalyticAbs(moved[i]-g[i]) / penaltyI4BFGSAnalyticAbs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// penaltyI4BFGSAnalyticProbeStep returns x_i moved by h, and the step actually representable.
-func penaltyI4BFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// penaltyI4BFGSAnalyticCoordinateRange: without bounds any probe is allowed.
+func penaltyI4BFGSAnalyticCoordinateRange(i int, diffs *penaltyI4BFGSAnalyticDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// penaltyI4BFGSAnalyticProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func penaltyI4BFGSAnalyticProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := penaltyI4BFGSAnalyticClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// penaltyI4BFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func penaltyI4BFGSAnalyticClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// penaltyI4BFGSAnalyticOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func penaltyI4BFGSAnalyticOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // penaltyI4BFGSAnalyticSquareRoot returns √v.
@@ -600,6 +651,11 @@ func penaltyI4BFGSAnalyticLarger(a, b float64) float64 {
 		return a
 	}
 	return b
+}
+
+// penaltyI4BFGSAnalyticStationarity measures the gradient itself.
+func penaltyI4BFGSAnalyticStationarity(g, e, x *[4]float64, fx float64, b *penaltyI4BFGSAnalyticBox) (measure, floor float64) {
+	return penaltyI4BFGSAnalyticGradientMeasure(g, e, x, fx)
 }
 
 // penaltyI4BFGSAnalyticGradientMeasure is the scale-free measure
@@ -635,6 +691,14 @@ func penaltyI4BFGSAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
 	return true
 }
 
+// penaltyI4BFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
+func penaltyI4BFGSAnalyticCurvaturePair(s, y, x *[4]float64, b *penaltyI4BFGSAnalyticBox) {}
+
+// penaltyI4BFGSAnalyticSearchDirection is the direction's own.
+func penaltyI4BFGSAnalyticSearchDirection(dir *penaltyI4BFGSAnalyticDirection, x, g, d *[4]float64, b *penaltyI4BFGSAnalyticBox) {
+	dir.compute(g, d)
+}
+
 // penaltyI4BFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func penaltyI4BFGSAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
@@ -662,7 +726,10 @@ func penaltyI4BFGSAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (penaltyI4BFGSAnalyticStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -671,13 +738,17 @@ func penaltyI4BFGSAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func penaltyI4BFGSAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *penaltyI4BFGSAnalyticDifferences) penaltyI4BFGSAnalyticLineResult {
+func penaltyI4BFGSAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *penaltyI4BFGSAnalyticDifferences) penaltyI4BFGSAnalyticLineResult {
 	low := penaltyI4BFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyI4BFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                     // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend penaltyI4BFGSAnalyticRiseTrend // of the trials failing sufficient decrease
+	var trend penaltyI4BFGSAnalyticRiseTrend                         // of the trials failing sufficient decrease
+	limit := penaltyI4BFGSAnalyticStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < penaltyI4BFGSAnalyticStepTrials; trial++ {
 		if bracketed && penaltyI4BFGSAnalyticAbs(high.step-low.step) <= tiny {
@@ -687,12 +758,12 @@ func penaltyI4BFGSAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64, s
 			if low.step == 0 {
 				return penaltyI4BFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: penaltyI4BFGSAnalyticTinyOrExhausted(penaltyI4BFGSAnalyticFinite(high.value))}
 			}
-			return penaltyI4BFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return penaltyI4BFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return penaltyI4BFGSAnalyticLineResult{calls: calls, end: penaltyI4BFGSAnalyticSearchOutOfBudget}
 		}
-		penaltyI4BFGSAnalyticMoveTo(xt, x, t, d)
+		penaltyI4BFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := penaltyI4BFGSAnalyticLinePoint{step: t, value: PenaltyI4(xt)}
 		calls++
 		previous := low
@@ -703,8 +774,7 @@ func penaltyI4BFGSAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64, s
 			if calls+penaltyI4BFGSAnalyticDerivativeCost > budget {
 				return penaltyI4BFGSAnalyticLineResult{calls: calls, end: penaltyI4BFGSAnalyticSearchOutOfBudget}
 			}
-			penaltyI4BFGSAnalyticDerivative(xt, current.value, gt, diffs)
-			calls += penaltyI4BFGSAnalyticDerivativeCost
+			calls += penaltyI4BFGSAnalyticDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = penaltyI4BFGSAnalyticDot(gt, d), true
 			switch {
 			case !penaltyI4BFGSAnalyticFinite(current.slope):
@@ -715,18 +785,22 @@ func penaltyI4BFGSAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64, s
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return penaltyI4BFGSAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: penaltyI4BFGSAnalyticSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = penaltyI4BFGSAnalyticZoomTrial(&low, &high)
-		} else {
-			t = penaltyI4BFGSAnalyticExpandTrial(&previous, &current)
+		} else if t = penaltyI4BFGSAnalyticExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return penaltyI4BFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return penaltyI4BFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return penaltyI4BFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: penaltyI4BFGSAnalyticSearchExhausted}
 }
@@ -813,6 +887,11 @@ func penaltyI4BFGSAnalyticFaithfulStep(x, xt, d *[4]float64, t float64) bool {
 	return true
 }
 
+// penaltyI4BFGSAnalyticStepCap: without bounds a step may be as long as the search wants.
+func penaltyI4BFGSAnalyticStepCap(x, d *[4]float64, tiny float64, b *penaltyI4BFGSAnalyticBox) float64 {
+	return math.Inf(1)
+}
+
 // penaltyI4BFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -837,10 +916,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func penaltyI4BFGSAnalyticAcceptLow(x, d *[4]float64, low *penaltyI4BFGSAnalyticLinePoint, lowGradient *[4]float64, calls int, xt, gt *[4]float64) penaltyI4BFGSAnalyticLineResult {
-	penaltyI4BFGSAnalyticMoveTo(xt, x, low.step, d)
+func penaltyI4BFGSAnalyticAcceptLow(x, d *[4]float64, low *penaltyI4BFGSAnalyticLinePoint, lowGradient *[4]float64, calls int, xt, gt *[4]float64, diffs *penaltyI4BFGSAnalyticDifferences) penaltyI4BFGSAnalyticLineResult {
+	penaltyI4BFGSAnalyticTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return penaltyI4BFGSAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: penaltyI4BFGSAnalyticSearchAccepted}
+}
+
+// penaltyI4BFGSAnalyticTrialPoint is x + t·d.
+func penaltyI4BFGSAnalyticTrialPoint(out, x *[4]float64, t float64, d *[4]float64, b *penaltyI4BFGSAnalyticBox) {
+	penaltyI4BFGSAnalyticMoveTo(out, x, t, d)
 }
 
 // penaltyI4BFGSAnalyticMoveTo sets out = x + t·d.
@@ -895,21 +979,6 @@ func penaltyI4BFGSAnalyticModelMinimizer(a, b *penaltyI4BFGSAnalyticLinePoint) (
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, penaltyI4BFGSAnalyticFinite(t)
-}
-
-// penaltyI4BFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func penaltyI4BFGSAnalyticClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // penaltyI4BFGSAnalyticExpandTrial picks a larger trial after current met sufficient decrease

@@ -88,6 +88,9 @@ func PenaltyI4BFGSCentralDefaultLimits() PenaltyI4BFGSCentralLimits {
 	}
 }
 
+// penaltyI4BFGSCentralBox is empty: mgh.toml sets no bounds on PenaltyI4BFGSCentral.
+type penaltyI4BFGSCentralBox struct{}
+
 // PenaltyI4BFGSCentral minimizes PenaltyI4 from x0, as mgh.toml specifies.
 //
 // Direction bfgs: BFGS quasi-Newton with a dense inverse-Hessian approximation (dim² numbers).
@@ -105,7 +108,7 @@ func PenaltyI4BFGSCentral(x0 [4]float64) PenaltyI4BFGSCentralResult {
 
 // PenaltyI4BFGSCentralWithLimits is PenaltyI4BFGSCentral with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func PenaltyI4BFGSCentralWithLimits(x0 [4]float64, limits PenaltyI4BFGSCentralLimits) PenaltyI4BFGSCentralResult {
-	out := penaltyI4BFGSCentralMinimize(x0, limits)
+	out := penaltyI4BFGSCentralMinimize(x0, limits, penaltyI4BFGSCentralBox{})
 	return PenaltyI4BFGSCentralResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func penaltyI4BFGSCentralMinimize(x0 [4]float64, lim PenaltyI4BFGSCentralLimits) penaltyI4BFGSCentralOutcome {
-	out := penaltyI4BFGSCentralOutcome{x: x0, status: PenaltyI4BFGSCentralOutOfEvaluations, gradient: math.NaN()}
+func penaltyI4BFGSCentralMinimize(x0 [4]float64, lim PenaltyI4BFGSCentralLimits, bounds penaltyI4BFGSCentralBox) penaltyI4BFGSCentralOutcome {
+	x := x0
+	penaltyI4BFGSCentralEnterBox(&x, &bounds)
+	out := penaltyI4BFGSCentralOutcome{x: x, status: PenaltyI4BFGSCentralOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := PenaltyI4(&x)
 	out.f, out.evaluations = fx, 1
 	if !penaltyI4BFGSCentralFinite(fx) || !penaltyI4BFGSCentralFiniteVec(&x) {
 		out.status = PenaltyI4BFGSCentralNonFiniteStart
 		return out
 	}
-	var diffs penaltyI4BFGSCentralDifferences
+	diffs := penaltyI4BFGSCentralDifferences{bounds: bounds}
 	calls, ok := penaltyI4BFGSCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+penaltyI4BFGSCentralDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [4]float64
-	penaltyI4BFGSCentralDerivative(&x, fx, &g, &diffs)
-	out.evaluations += penaltyI4BFGSCentralDerivativeCost
+	out.evaluations += penaltyI4BFGSCentralDerivative(&x, fx, &g, &diffs)
 
 	if !penaltyI4BFGSCentralFiniteVec(&g) {
 		out.status = PenaltyI4BFGSCentralNonFiniteGradient
@@ -211,7 +214,7 @@ func penaltyI4BFGSCentralMinimize(x0 [4]float64, lim PenaltyI4BFGSCentralLimits)
 		case !confirmed:
 			penaltyI4BFGSCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := penaltyI4BFGSCentralGradientMeasure(&g, &e, &x, fx)
+		measure, floor := penaltyI4BFGSCentralStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, penaltyI4BFGSCentralLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func penaltyI4BFGSCentralMinimize(x0 [4]float64, lim PenaltyI4BFGSCentralLimits)
 			if rises >= 8 {
 				return best.ending(PenaltyI4BFGSCentralDiverged, out.iterations, out.evaluations)
 			}
+			penaltyI4BFGSCentralCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(PenaltyI4BFGSCentralOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		penaltyI4BFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := penaltyI4BFGSCentralDot(&g, &d)
 		if !(now < 0) || !penaltyI4BFGSCentralFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			penaltyI4BFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = penaltyI4BFGSCentralDot(&g, &d)
 		}
 		first := float64(penaltyI4BFGSCentralStepInitial)
@@ -267,7 +271,7 @@ func penaltyI4BFGSCentralMinimize(x0 [4]float64, lim PenaltyI4BFGSCentralLimits)
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := penaltyI4BFGSCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := penaltyI4BFGSCentralLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := penaltyI4BFGSCentralLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case penaltyI4BFGSCentralSearchOutOfBudget:
@@ -303,8 +307,7 @@ func penaltyI4BFGSCentralMinimize(x0 [4]float64, lim PenaltyI4BFGSCentralLimits)
 				}
 				return best.ending(PenaltyI4BFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			penaltyI4BFGSCentralDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += penaltyI4BFGSCentralDerivativeCost
+			out.evaluations += penaltyI4BFGSCentralDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		penaltyI4BFGSCentralDifference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o penaltyI4BFGSCentralOutcome) ending(end PenaltyI4BFGSCentralStatus, iter
 	return o
 }
 
+// penaltyI4BFGSCentralEnterBox: without bounds every start is inside.
+func penaltyI4BFGSCentralEnterBox(x *[4]float64, b *penaltyI4BFGSCentralBox) {}
+
 // penaltyI4BFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func penaltyI4BFGSCentralFiniteVec(x *[4]float64) bool {
 	return true
 }
 
-// penaltyI4BFGSCentralDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// penaltyI4BFGSCentralDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type penaltyI4BFGSCentralDifferences struct {
 	ratio     [4]float64
 	curvature [4]float64
 	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see penaltyI4BFGSCentralRoundingFloor)
+	bounds    penaltyI4BFGSCentralBox
 }
 
 // penaltyI4BFGSCentralCalibrate chooses each central-difference interval from the
@@ -397,19 +405,45 @@ func penaltyI4BFGSCentralCalibrate(x *[4]float64, fx float64, diffs *penaltyI4BF
 	var slope [4]float64
 	scale := penaltyI4BFGSCentralAbs(fx)
 	quarter := penaltyI4BFGSCentralSquareRoot(penaltyI4BFGSCentralSquareRoot(penaltyI4BFGSCentralUnitRoundoff)) // u^(1/4)
+	calls := 0
 	for i := range probe {
-		if 4*(i+1) > budget {
-			return 4 * i, false
+		if calls+4 > budget {
+			return calls, false
 		}
 		xi := probe[i]
 		bar := quarter * penaltyI4BFGSCentralLarger(1, penaltyI4BFGSCentralAbs(xi))
+		lower, upper := penaltyI4BFGSCentralCoordinateRange(i, diffs)
+		if xi+2*bar > upper || xi-2*bar < lower {
+			// At a bound: three probes on the side with room, at h, 2h
+			// and 3h, for f‴ ≈ (f(3h) − 3f(2h) + 3f(h) − f(0))/h³ (the
+			// third forward difference).
+			h := penaltyI4BFGSCentralOneSide(xi, bar, 3, lower, upper)
+			if h == 0 {
+				continue // fixed by equal bounds
+			}
+			var f [3]float64
+			for k := range f {
+				probe[i], _ = penaltyI4BFGSCentralProbeStep(xi, float64(k+1)*h, lower, upper)
+				f[k] = PenaltyI4(&probe)
+				scale = penaltyI4BFGSCentralLarger(scale, penaltyI4BFGSCentralMagnitude(f[k]))
+			}
+			probe[i] = xi
+			calls += 3
+			if penaltyI4BFGSCentralFinite(f[0]) && penaltyI4BFGSCentralFinite(f[1]) && penaltyI4BFGSCentralFinite(f[2]) {
+				diffs.curvature[i] = penaltyI4BFGSCentralAbs(f[2]-3*f[1]+3*f[0]-fx) / penaltyI4BFGSCentralAbs(h*h*h)
+				diffs.second[i] = penaltyI4BFGSCentralAbs(fx-2*f[0]+f[1]) / (h * h)
+				slope[i] = (-3*fx + 4*f[0] - f[1]) / (2 * h)
+			}
+			continue
+		}
 		var f [4]float64
 		for k, m := range [4]float64{2, 1, -1, -2} {
-			probe[i], _ = penaltyI4BFGSCentralProbeStep(xi, m*bar)
+			probe[i], _ = penaltyI4BFGSCentralProbeStep(xi, m*bar, lower, upper)
 			f[k] = PenaltyI4(&probe)
 			scale = penaltyI4BFGSCentralLarger(scale, penaltyI4BFGSCentralMagnitude(f[k]))
 		}
 		probe[i] = xi
+		calls += 4
 		if penaltyI4BFGSCentralFinite(f[0]) && penaltyI4BFGSCentralFinite(f[1]) && penaltyI4BFGSCentralFinite(f[2]) && penaltyI4BFGSCentralFinite(f[3]) {
 			diffs.curvature[i] = penaltyI4BFGSCentralAbs(f[0]-2*f[1]+2*f[2]-f[3]) / (2 * bar * bar * bar)
 			diffs.second[i] = penaltyI4BFGSCentralAbs(f[1]-2*fx+f[2]) / (bar * bar)
@@ -428,7 +462,7 @@ func penaltyI4BFGSCentralCalibrate(x *[4]float64, fx float64, diffs *penaltyI4BF
 		diffs.ratio[i] = penaltyI4BFGSCentralClampBetween(h, 64*penaltyI4BFGSCentralUnitRoundoff*s, bar) / s
 		diffs.curvature[i] = third
 	}
-	return 4 * len(probe), true
+	return calls, true
 }
 
 // penaltyI4BFGSCentralAbs returns |v|.
@@ -454,10 +488,48 @@ func penaltyI4BFGSCentralLarger(a, b float64) float64 {
 	return b
 }
 
-// penaltyI4BFGSCentralProbeStep returns x_i moved by h, and the step actually representable.
-func penaltyI4BFGSCentralProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// penaltyI4BFGSCentralCoordinateRange: without bounds any probe is allowed.
+func penaltyI4BFGSCentralCoordinateRange(i int, diffs *penaltyI4BFGSCentralDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// penaltyI4BFGSCentralOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func penaltyI4BFGSCentralOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
+}
+
+// penaltyI4BFGSCentralProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func penaltyI4BFGSCentralProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := penaltyI4BFGSCentralClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// penaltyI4BFGSCentralClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func penaltyI4BFGSCentralClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
 }
 
 // penaltyI4BFGSCentralMagnitude is |v| for a finite v and 0 otherwise: a probe that fell
@@ -493,42 +565,85 @@ func penaltyI4BFGSCentralCubeRoot(v float64) float64 {
 	return math.Cbrt(v)
 }
 
-// penaltyI4BFGSCentralClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func penaltyI4BFGSCentralClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
-}
-
 // penaltyI4BFGSCentralDerivative approximates the gradient by central differences,
 //
 //	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),
 //
 // with the intervals penaltyI4BFGSCentralCalibrate chose, h_i = ratio_i·max(1, |x_i|)
-// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls; fx is
-// not needed.
-func penaltyI4BFGSCentralDerivative(x *[4]float64, fx float64, g *[4]float64, diffs *penaltyI4BFGSCentralDifferences) {
+// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls. Where
+// a bound leaves no room on one side, the three-point endpoint formula on
+// the other side takes its place at the same cost (see parabola); a
+// variable fixed by equal bounds costs nothing and gets 0.
+func penaltyI4BFGSCentralDerivative(x *[4]float64, fx float64, g *[4]float64, diffs *penaltyI4BFGSCentralDifferences) int {
 	probe := *x
+	calls := 0
 	for i := range probe {
 		xi := probe[i]
-		h := diffs.ratio[i] * penaltyI4BFGSCentralLarger(1, penaltyI4BFGSCentralAbs(xi))
-		up, _ := penaltyI4BFGSCentralProbeStep(xi, h)
-		down, _ := penaltyI4BFGSCentralProbeStep(xi, -h)
-		probe[i] = up
-		fUp := PenaltyI4(&probe)
-		probe[i] = down
-		fDown := PenaltyI4(&probe)
-		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
-		probe[i] = xi
+		h, oneSided := penaltyI4BFGSCentralCentralInterval(x, i, diffs)
+		lower, upper := penaltyI4BFGSCentralCoordinateRange(i, diffs)
+		switch {
+		case h == 0:
+			g[i] = 0 // fixed by equal bounds
+			continue
+		case oneSided:
+			g[i], _, _ = penaltyI4BFGSCentralSidedProbes(&probe, i, fx, h, lower, upper) // the three-point endpoint formula
+		default:
+			up, _ := penaltyI4BFGSCentralProbeStep(xi, h, lower, upper)
+			down, _ := penaltyI4BFGSCentralProbeStep(xi, -h, lower, upper)
+			probe[i] = up
+			fUp := PenaltyI4(&probe)
+			probe[i] = down
+			fDown := PenaltyI4(&probe)
+			g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+			probe[i] = xi
+		}
+		calls += 2
 	}
+	return calls
+}
+
+// penaltyI4BFGSCentralCentralInterval is the interval of coordinate i at x, ratio_i·max(1,
+// |x_i|), and whether the box leaves room for probes on both sides; when
+// it does not, the interval is signed towards the side with room for
+// probes at h and 2h, and shortened where the box is narrower than that
+// (see penaltyI4BFGSCentralOneSide).
+func penaltyI4BFGSCentralCentralInterval(x *[4]float64, i int, diffs *penaltyI4BFGSCentralDifferences) (h float64, oneSided bool) {
+	lower, upper := penaltyI4BFGSCentralCoordinateRange(i, diffs)
+	h = diffs.ratio[i] * penaltyI4BFGSCentralLarger(1, penaltyI4BFGSCentralAbs(x[i]))
+	if x[i]+h <= upper && x[i]-h >= lower {
+		return h, false
+	}
+	return penaltyI4BFGSCentralOneSide(x[i], h, 2, lower, upper), true
+}
+
+// penaltyI4BFGSCentralSidedProbes evaluates f at x moved along coordinate i by h and by 2h,
+// kept within [lower, upper], and returns the slope and second derivative
+// of the parabola through them and (x, fx) (see parabola), and the larger
+// magnitude of the two values.
+func penaltyI4BFGSCentralSidedProbes(probe *[4]float64, i int, fx, h, lower, upper float64) (slope, second, size float64) {
+	xi := probe[i]
+	near, a := penaltyI4BFGSCentralProbeStep(xi, h, lower, upper)
+	far, b := penaltyI4BFGSCentralProbeStep(xi, 2*h, lower, upper)
+	probe[i] = near
+	fNear := PenaltyI4(probe)
+	probe[i] = far
+	fFar := PenaltyI4(probe)
+	probe[i] = xi
+	slope, second = penaltyI4BFGSCentralParabola(fx, a, fNear, b, fFar)
+	return slope, second, penaltyI4BFGSCentralLarger(penaltyI4BFGSCentralMagnitude(fNear), penaltyI4BFGSCentralMagnitude(fFar))
+}
+
+// penaltyI4BFGSCentralParabola returns the first and second derivatives at 0 of the parabola
+// through (0, f0), (a, fa) and (b, fb), for probes on one side of a bound.
+// With b = 2a they are the three-point endpoint formulas
+// f′ ≈ (−3f0 + 4fa − fb)/(2a), error a²|f‴|/3, and
+// f″ ≈ (f0 − 2fa + fb)/a² (Burden & Faires, Numerical Analysis, §4.1
+// and §4.1's second-derivative formulas, from memory); written for unequal
+// a and b, so that the representable steps can be used.
+func penaltyI4BFGSCentralParabola(f0, a, fa, b, fb float64) (slope, second float64) {
+	slope = -(a+b)/(a*b)*f0 + b/(a*(b-a))*fa - a/(b*(b-a))*fb
+	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
+	return slope, second
 }
 
 // penaltyI4BFGSCentralDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
@@ -668,13 +783,13 @@ func penaltyI4BFGSCentralConfirmGradient(x *[4]float64, fx float64, g, e *[4]flo
 		wide.ratio[i] *= 2
 	}
 	var doubled [4]float64
-	penaltyI4BFGSCentralDerivative(x, fx, g, diffs)
-	penaltyI4BFGSCentralDerivative(x, fx, &doubled, &wide)
+	calls += penaltyI4BFGSCentralDerivative(x, fx, g, diffs)
+	calls += penaltyI4BFGSCentralDerivative(x, fx, &doubled, &wide)
 	penaltyI4BFGSCentralGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * penaltyI4BFGSCentralAbs(g[i]-doubled[i])
 	}
-	return calls + 2*penaltyI4BFGSCentralDerivativeCost, true
+	return calls, true
 }
 
 // penaltyI4BFGSCentralGradientError bounds each central difference's error by twice its
@@ -684,8 +799,16 @@ func penaltyI4BFGSCentralConfirmGradient(x *[4]float64, fx float64, g, e *[4]flo
 func penaltyI4BFGSCentralGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *penaltyI4BFGSCentralDifferences) {
 	noise := penaltyI4BFGSCentralNoiseLevel(x, fx, g)
 	for i := range e {
-		h := diffs.ratio[i] * penaltyI4BFGSCentralLarger(1, penaltyI4BFGSCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		h, oneSided := penaltyI4BFGSCentralCentralInterval(x, i, diffs)
+		h = penaltyI4BFGSCentralAbs(h)
+		switch {
+		case h == 0:
+			e[i] = 0 // fixed by equal bounds
+		case oneSided:
+			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+		default:
+			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		}
 	}
 }
 
@@ -707,6 +830,11 @@ func penaltyI4BFGSCentralRoundingFloor(x, g, e *[4]float64, diffs *penaltyI4BFGS
 // calibration, which penaltyI4BFGSCentralConfirmGradient has just made at x.
 func penaltyI4BFGSCentralDiagonalCurvature(x, g *[4]float64, diffs *penaltyI4BFGSCentralDifferences, h *[4]float64) {
 	*h = diffs.second
+}
+
+// penaltyI4BFGSCentralStationarity measures the gradient itself.
+func penaltyI4BFGSCentralStationarity(g, e, x *[4]float64, fx float64, b *penaltyI4BFGSCentralBox) (measure, floor float64) {
+	return penaltyI4BFGSCentralGradientMeasure(g, e, x, fx)
 }
 
 // penaltyI4BFGSCentralGradientMeasure is the scale-free measure
@@ -742,6 +870,14 @@ func penaltyI4BFGSCentralStepWithin(s, x *[4]float64, tol float64) bool {
 	return true
 }
 
+// penaltyI4BFGSCentralCurvaturePair: without bounds the pair is used as it is.
+func penaltyI4BFGSCentralCurvaturePair(s, y, x *[4]float64, b *penaltyI4BFGSCentralBox) {}
+
+// penaltyI4BFGSCentralSearchDirection is the direction's own.
+func penaltyI4BFGSCentralSearchDirection(dir *penaltyI4BFGSCentralDirection, x, g, d *[4]float64, b *penaltyI4BFGSCentralBox) {
+	dir.compute(g, d)
+}
+
 // penaltyI4BFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func penaltyI4BFGSCentralTinyStep(x, d *[4]float64, tol float64) float64 {
@@ -769,7 +905,10 @@ func penaltyI4BFGSCentralTinyStep(x, d *[4]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (penaltyI4BFGSCentralStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -778,13 +917,17 @@ func penaltyI4BFGSCentralTinyStep(x, d *[4]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func penaltyI4BFGSCentralLineSearch(x *[4]float64, fx float64, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *penaltyI4BFGSCentralDifferences) penaltyI4BFGSCentralLineResult {
+func penaltyI4BFGSCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *penaltyI4BFGSCentralDifferences) penaltyI4BFGSCentralLineResult {
 	low := penaltyI4BFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyI4BFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                    // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend penaltyI4BFGSCentralRiseTrend // of the trials failing sufficient decrease
+	var trend penaltyI4BFGSCentralRiseTrend                         // of the trials failing sufficient decrease
+	limit := penaltyI4BFGSCentralStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < penaltyI4BFGSCentralStepTrials; trial++ {
 		if bracketed && penaltyI4BFGSCentralAbs(high.step-low.step) <= tiny {
@@ -794,12 +937,12 @@ func penaltyI4BFGSCentralLineSearch(x *[4]float64, fx float64, d *[4]float64, sl
 			if low.step == 0 {
 				return penaltyI4BFGSCentralLineResult{calls: calls, rising: trend.contradicts(), end: penaltyI4BFGSCentralTinyOrExhausted(penaltyI4BFGSCentralFinite(high.value))}
 			}
-			return penaltyI4BFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return penaltyI4BFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return penaltyI4BFGSCentralLineResult{calls: calls, end: penaltyI4BFGSCentralSearchOutOfBudget}
 		}
-		penaltyI4BFGSCentralMoveTo(xt, x, t, d)
+		penaltyI4BFGSCentralTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := penaltyI4BFGSCentralLinePoint{step: t, value: PenaltyI4(xt)}
 		calls++
 		previous := low
@@ -810,8 +953,7 @@ func penaltyI4BFGSCentralLineSearch(x *[4]float64, fx float64, d *[4]float64, sl
 			if calls+penaltyI4BFGSCentralDerivativeCost > budget {
 				return penaltyI4BFGSCentralLineResult{calls: calls, end: penaltyI4BFGSCentralSearchOutOfBudget}
 			}
-			penaltyI4BFGSCentralDerivative(xt, current.value, gt, diffs)
-			calls += penaltyI4BFGSCentralDerivativeCost
+			calls += penaltyI4BFGSCentralDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = penaltyI4BFGSCentralDot(gt, d), true
 			switch {
 			case !penaltyI4BFGSCentralFinite(current.slope):
@@ -822,18 +964,22 @@ func penaltyI4BFGSCentralLineSearch(x *[4]float64, fx float64, d *[4]float64, sl
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return penaltyI4BFGSCentralLineResult{step: t, value: current.value, calls: calls, gradient: true, end: penaltyI4BFGSCentralSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = penaltyI4BFGSCentralZoomTrial(&low, &high)
-		} else {
-			t = penaltyI4BFGSCentralExpandTrial(&previous, &current)
+		} else if t = penaltyI4BFGSCentralExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return penaltyI4BFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return penaltyI4BFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return penaltyI4BFGSCentralLineResult{calls: calls, rising: trend.contradicts(), end: penaltyI4BFGSCentralSearchExhausted}
 }
@@ -920,6 +1066,11 @@ func penaltyI4BFGSCentralFaithfulStep(x, xt, d *[4]float64, t float64) bool {
 	return true
 }
 
+// penaltyI4BFGSCentralStepCap: without bounds a step may be as long as the search wants.
+func penaltyI4BFGSCentralStepCap(x, d *[4]float64, tiny float64, b *penaltyI4BFGSCentralBox) float64 {
+	return math.Inf(1)
+}
+
 // penaltyI4BFGSCentralTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -944,10 +1095,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func penaltyI4BFGSCentralAcceptLow(x, d *[4]float64, low *penaltyI4BFGSCentralLinePoint, lowGradient *[4]float64, calls int, xt, gt *[4]float64) penaltyI4BFGSCentralLineResult {
-	penaltyI4BFGSCentralMoveTo(xt, x, low.step, d)
+func penaltyI4BFGSCentralAcceptLow(x, d *[4]float64, low *penaltyI4BFGSCentralLinePoint, lowGradient *[4]float64, calls int, xt, gt *[4]float64, diffs *penaltyI4BFGSCentralDifferences) penaltyI4BFGSCentralLineResult {
+	penaltyI4BFGSCentralTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return penaltyI4BFGSCentralLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: penaltyI4BFGSCentralSearchAccepted}
+}
+
+// penaltyI4BFGSCentralTrialPoint is x + t·d.
+func penaltyI4BFGSCentralTrialPoint(out, x *[4]float64, t float64, d *[4]float64, b *penaltyI4BFGSCentralBox) {
+	penaltyI4BFGSCentralMoveTo(out, x, t, d)
 }
 
 // penaltyI4BFGSCentralMoveTo sets out = x + t·d.

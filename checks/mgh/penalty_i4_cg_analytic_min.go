@@ -88,6 +88,9 @@ func PenaltyI4CGAnalyticDefaultLimits() PenaltyI4CGAnalyticLimits {
 	}
 }
 
+// penaltyI4CGAnalyticBox is empty: mgh.toml sets no bounds on PenaltyI4CGAnalytic.
+type penaltyI4CGAnalyticBox struct{}
+
 // PenaltyI4CGAnalytic minimizes PenaltyI4 from x0, as mgh.toml specifies.
 //
 // Direction cg: nonlinear conjugate gradients, Polak–Ribière clipped at zero (PR+), restarted every dim steps.
@@ -105,7 +108,7 @@ func PenaltyI4CGAnalytic(x0 [4]float64) PenaltyI4CGAnalyticResult {
 
 // PenaltyI4CGAnalyticWithLimits is PenaltyI4CGAnalytic with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func PenaltyI4CGAnalyticWithLimits(x0 [4]float64, limits PenaltyI4CGAnalyticLimits) PenaltyI4CGAnalyticResult {
-	out := penaltyI4CGAnalyticMinimize(x0, limits)
+	out := penaltyI4CGAnalyticMinimize(x0, limits, penaltyI4CGAnalyticBox{})
 	return PenaltyI4CGAnalyticResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func penaltyI4CGAnalyticMinimize(x0 [4]float64, lim PenaltyI4CGAnalyticLimits) penaltyI4CGAnalyticOutcome {
-	out := penaltyI4CGAnalyticOutcome{x: x0, status: PenaltyI4CGAnalyticOutOfEvaluations, gradient: math.NaN()}
+func penaltyI4CGAnalyticMinimize(x0 [4]float64, lim PenaltyI4CGAnalyticLimits, bounds penaltyI4CGAnalyticBox) penaltyI4CGAnalyticOutcome {
+	x := x0
+	penaltyI4CGAnalyticEnterBox(&x, &bounds)
+	out := penaltyI4CGAnalyticOutcome{x: x, status: PenaltyI4CGAnalyticOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := PenaltyI4(&x)
 	out.f, out.evaluations = fx, 1
 	if !penaltyI4CGAnalyticFinite(fx) || !penaltyI4CGAnalyticFiniteVec(&x) {
 		out.status = PenaltyI4CGAnalyticNonFiniteStart
 		return out
 	}
-	var diffs penaltyI4CGAnalyticDifferences
+	diffs := penaltyI4CGAnalyticDifferences{bounds: bounds}
 	calls, ok := penaltyI4CGAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+penaltyI4CGAnalyticDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [4]float64
-	penaltyI4CGAnalyticDerivative(&x, fx, &g, &diffs)
-	out.evaluations += penaltyI4CGAnalyticDerivativeCost
+	out.evaluations += penaltyI4CGAnalyticDerivative(&x, fx, &g, &diffs)
 
 	if !penaltyI4CGAnalyticFiniteVec(&g) {
 		out.status = PenaltyI4CGAnalyticNonFiniteGradient
@@ -211,7 +214,7 @@ func penaltyI4CGAnalyticMinimize(x0 [4]float64, lim PenaltyI4CGAnalyticLimits) p
 		case !confirmed:
 			penaltyI4CGAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := penaltyI4CGAnalyticGradientMeasure(&g, &e, &x, fx)
+		measure, floor := penaltyI4CGAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, penaltyI4CGAnalyticLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func penaltyI4CGAnalyticMinimize(x0 [4]float64, lim PenaltyI4CGAnalyticLimits) p
 			if rises >= 8 {
 				return best.ending(PenaltyI4CGAnalyticDiverged, out.iterations, out.evaluations)
 			}
+			penaltyI4CGAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(PenaltyI4CGAnalyticOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		penaltyI4CGAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := penaltyI4CGAnalyticDot(&g, &d)
 		if !(now < 0) || !penaltyI4CGAnalyticFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			penaltyI4CGAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = penaltyI4CGAnalyticDot(&g, &d)
 		}
 		first := float64(penaltyI4CGAnalyticStepInitial)
@@ -267,7 +271,7 @@ func penaltyI4CGAnalyticMinimize(x0 [4]float64, lim PenaltyI4CGAnalyticLimits) p
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := penaltyI4CGAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := penaltyI4CGAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := penaltyI4CGAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case penaltyI4CGAnalyticSearchOutOfBudget:
@@ -303,8 +307,7 @@ func penaltyI4CGAnalyticMinimize(x0 [4]float64, lim PenaltyI4CGAnalyticLimits) p
 				}
 				return best.ending(PenaltyI4CGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			penaltyI4CGAnalyticDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += penaltyI4CGAnalyticDerivativeCost
+			out.evaluations += penaltyI4CGAnalyticDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		penaltyI4CGAnalyticDifference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o penaltyI4CGAnalyticOutcome) ending(end PenaltyI4CGAnalyticStatus, iterat
 	return o
 }
 
+// penaltyI4CGAnalyticEnterBox: without bounds every start is inside.
+func penaltyI4CGAnalyticEnterBox(x *[4]float64, b *penaltyI4CGAnalyticBox) {}
+
 // penaltyI4CGAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func penaltyI4CGAnalyticFiniteVec(x *[4]float64) bool {
 	return true
 }
 
-// penaltyI4CGAnalyticDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// penaltyI4CGAnalyticDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type penaltyI4CGAnalyticDifferences struct {
 	ratio     [4]float64
 	curvature [4]float64
 	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see penaltyI4CGAnalyticRoundingFloor)
+	bounds    penaltyI4CGAnalyticBox
 }
 
 // penaltyI4CGAnalyticCalibrate: an analytic gradient needs no intervals.
@@ -384,8 +392,9 @@ func penaltyI4CGAnalyticCalibrate(x *[4]float64, fx float64, diffs *penaltyI4CGA
 }
 
 // penaltyI4CGAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func penaltyI4CGAnalyticDerivative(x *[4]float64, fx float64, g *[4]float64, diffs *penaltyI4CGAnalyticDifferences) {
+func penaltyI4CGAnalyticDerivative(x *[4]float64, fx float64, g *[4]float64, diffs *penaltyI4CGAnalyticDifferences) int {
 	PenaltyI4Grad(x, g)
+	return 0
 }
 
 // penaltyI4CGAnalyticDirection is nonlinear conjugate gradients with the Polak–Ribière
@@ -517,13 +526,13 @@ func penaltyI4CGAnalyticConfirmGradient(x *[4]float64, fx float64, g, e *[4]floa
 		wide.ratio[i] *= 2
 	}
 	var doubled [4]float64
-	penaltyI4CGAnalyticDerivative(x, fx, g, diffs)
-	penaltyI4CGAnalyticDerivative(x, fx, &doubled, &wide)
+	calls += penaltyI4CGAnalyticDerivative(x, fx, g, diffs)
+	calls += penaltyI4CGAnalyticDerivative(x, fx, &doubled, &wide)
 	penaltyI4CGAnalyticGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * penaltyI4CGAnalyticAbs(g[i]-doubled[i])
 	}
-	return calls + 2*penaltyI4CGAnalyticDerivativeCost, true
+	return calls, true
 }
 
 // penaltyI4CGAnalyticGradientError: the analytic gradient is taken as exact; its error is
@@ -565,23 +574,70 @@ func penaltyI4CGAnalyticDiagonalCurvature(x, g *[4]float64, diffs *penaltyI4CGAn
 	var moved [4]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := penaltyI4CGAnalyticProbeStep(xi, penaltyI4CGAnalyticSquareRoot(penaltyI4CGAnalyticUnitRoundoff)*penaltyI4CGAnalyticLarger(1, penaltyI4CGAnalyticAbs(xi)))
-		probe[i] = up
-		PenaltyI4Grad(&probe, &moved)
-		h[i] = penaltyI4CGAnalyticAbs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := penaltyI4CGAnalyticCoordinateRange(i, diffs)
+		up, delta := penaltyI4CGAnalyticProbeStep(xi, penaltyI4CGAnalyticOneSide(xi, penaltyI4CGAnalyticSquareRoot(penaltyI4CGAnalyticUnitRoundoff)*penaltyI4CGAnalyticLarger(1, penaltyI4CGAnalyticAbs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			PenaltyI4Grad(&probe, &moved)
+			h[i] = penaltyI4CGAnalyticAbs(moved[i]-g[i]) / penaltyI4CGAnalyticAbs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// penaltyI4CGAnalyticProbeStep returns x_i moved by h, and the step actually representable.
-func penaltyI4CGAnalyticProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// penaltyI4CGAnalyticCoordinateRange: without bounds any probe is allowed.
+func penaltyI4CGAnalyticCoordinateRange(i int, diffs *penaltyI4CGAnalyticDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// penaltyI4CGAnalyticProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func penaltyI4CGAnalyticProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := penaltyI4CGAnalyticClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// penaltyI4CGAnalyticClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func penaltyI4CGAnalyticClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// penaltyI4CGAnalyticOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func penaltyI4CGAnalyticOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // penaltyI4CGAnalyticSquareRoot returns √v.
 func penaltyI4CGAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// penaltyI4CGAnalyticStationarity measures the gradient itself.
+func penaltyI4CGAnalyticStationarity(g, e, x *[4]float64, fx float64, b *penaltyI4CGAnalyticBox) (measure, floor float64) {
+	return penaltyI4CGAnalyticGradientMeasure(g, e, x, fx)
 }
 
 // penaltyI4CGAnalyticGradientMeasure is the scale-free measure
@@ -617,6 +673,14 @@ func penaltyI4CGAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
 	return true
 }
 
+// penaltyI4CGAnalyticCurvaturePair: without bounds the pair is used as it is.
+func penaltyI4CGAnalyticCurvaturePair(s, y, x *[4]float64, b *penaltyI4CGAnalyticBox) {}
+
+// penaltyI4CGAnalyticSearchDirection is the direction's own.
+func penaltyI4CGAnalyticSearchDirection(dir *penaltyI4CGAnalyticDirection, x, g, d *[4]float64, b *penaltyI4CGAnalyticBox) {
+	dir.compute(g, d)
+}
+
 // penaltyI4CGAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func penaltyI4CGAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
@@ -644,7 +708,10 @@ func penaltyI4CGAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (penaltyI4CGAnalyticStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -653,13 +720,17 @@ func penaltyI4CGAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func penaltyI4CGAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *penaltyI4CGAnalyticDifferences) penaltyI4CGAnalyticLineResult {
+func penaltyI4CGAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *penaltyI4CGAnalyticDifferences) penaltyI4CGAnalyticLineResult {
 	low := penaltyI4CGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyI4CGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                   // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend penaltyI4CGAnalyticRiseTrend // of the trials failing sufficient decrease
+	var trend penaltyI4CGAnalyticRiseTrend                         // of the trials failing sufficient decrease
+	limit := penaltyI4CGAnalyticStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < penaltyI4CGAnalyticStepTrials; trial++ {
 		if bracketed && penaltyI4CGAnalyticAbs(high.step-low.step) <= tiny {
@@ -669,12 +740,12 @@ func penaltyI4CGAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64, slo
 			if low.step == 0 {
 				return penaltyI4CGAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: penaltyI4CGAnalyticTinyOrExhausted(penaltyI4CGAnalyticFinite(high.value))}
 			}
-			return penaltyI4CGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return penaltyI4CGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return penaltyI4CGAnalyticLineResult{calls: calls, end: penaltyI4CGAnalyticSearchOutOfBudget}
 		}
-		penaltyI4CGAnalyticMoveTo(xt, x, t, d)
+		penaltyI4CGAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := penaltyI4CGAnalyticLinePoint{step: t, value: PenaltyI4(xt)}
 		calls++
 		previous := low
@@ -685,8 +756,7 @@ func penaltyI4CGAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64, slo
 			if calls+penaltyI4CGAnalyticDerivativeCost > budget {
 				return penaltyI4CGAnalyticLineResult{calls: calls, end: penaltyI4CGAnalyticSearchOutOfBudget}
 			}
-			penaltyI4CGAnalyticDerivative(xt, current.value, gt, diffs)
-			calls += penaltyI4CGAnalyticDerivativeCost
+			calls += penaltyI4CGAnalyticDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = penaltyI4CGAnalyticDot(gt, d), true
 			switch {
 			case !penaltyI4CGAnalyticFinite(current.slope):
@@ -697,18 +767,22 @@ func penaltyI4CGAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64, slo
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return penaltyI4CGAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: penaltyI4CGAnalyticSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = penaltyI4CGAnalyticZoomTrial(&low, &high)
-		} else {
-			t = penaltyI4CGAnalyticExpandTrial(&previous, &current)
+		} else if t = penaltyI4CGAnalyticExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return penaltyI4CGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return penaltyI4CGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return penaltyI4CGAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: penaltyI4CGAnalyticSearchExhausted}
 }
@@ -795,6 +869,11 @@ func penaltyI4CGAnalyticFaithfulStep(x, xt, d *[4]float64, t float64) bool {
 	return true
 }
 
+// penaltyI4CGAnalyticStepCap: without bounds a step may be as long as the search wants.
+func penaltyI4CGAnalyticStepCap(x, d *[4]float64, tiny float64, b *penaltyI4CGAnalyticBox) float64 {
+	return math.Inf(1)
+}
+
 // penaltyI4CGAnalyticTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -819,10 +898,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func penaltyI4CGAnalyticAcceptLow(x, d *[4]float64, low *penaltyI4CGAnalyticLinePoint, lowGradient *[4]float64, calls int, xt, gt *[4]float64) penaltyI4CGAnalyticLineResult {
-	penaltyI4CGAnalyticMoveTo(xt, x, low.step, d)
+func penaltyI4CGAnalyticAcceptLow(x, d *[4]float64, low *penaltyI4CGAnalyticLinePoint, lowGradient *[4]float64, calls int, xt, gt *[4]float64, diffs *penaltyI4CGAnalyticDifferences) penaltyI4CGAnalyticLineResult {
+	penaltyI4CGAnalyticTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return penaltyI4CGAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: penaltyI4CGAnalyticSearchAccepted}
+}
+
+// penaltyI4CGAnalyticTrialPoint is x + t·d.
+func penaltyI4CGAnalyticTrialPoint(out, x *[4]float64, t float64, d *[4]float64, b *penaltyI4CGAnalyticBox) {
+	penaltyI4CGAnalyticMoveTo(out, x, t, d)
 }
 
 // penaltyI4CGAnalyticMoveTo sets out = x + t·d.
@@ -877,21 +961,6 @@ func penaltyI4CGAnalyticModelMinimizer(a, b *penaltyI4CGAnalyticLinePoint) (t fl
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, penaltyI4CGAnalyticFinite(t)
-}
-
-// penaltyI4CGAnalyticClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func penaltyI4CGAnalyticClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // penaltyI4CGAnalyticExpandTrial picks a larger trial after current met sufficient decrease

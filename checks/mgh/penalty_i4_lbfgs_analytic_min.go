@@ -88,6 +88,9 @@ func PenaltyI4LBFGSAnalyticDefaultLimits() PenaltyI4LBFGSAnalyticLimits {
 	}
 }
 
+// penaltyI4LBFGSAnalyticBox is empty: mgh.toml sets no bounds on PenaltyI4LBFGSAnalytic.
+type penaltyI4LBFGSAnalyticBox struct{}
+
 // PenaltyI4LBFGSAnalytic minimizes PenaltyI4 from x0, as mgh.toml specifies.
 //
 // Direction lbfgs: limited-memory BFGS: the last `memory` pairs, two-loop recursion (2·memory·dim numbers).
@@ -105,7 +108,7 @@ func PenaltyI4LBFGSAnalytic(x0 [4]float64) PenaltyI4LBFGSAnalyticResult {
 
 // PenaltyI4LBFGSAnalyticWithLimits is PenaltyI4LBFGSAnalytic with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func PenaltyI4LBFGSAnalyticWithLimits(x0 [4]float64, limits PenaltyI4LBFGSAnalyticLimits) PenaltyI4LBFGSAnalyticResult {
-	out := penaltyI4LBFGSAnalyticMinimize(x0, limits)
+	out := penaltyI4LBFGSAnalyticMinimize(x0, limits, penaltyI4LBFGSAnalyticBox{})
 	return PenaltyI4LBFGSAnalyticResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -159,27 +162,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func penaltyI4LBFGSAnalyticMinimize(x0 [4]float64, lim PenaltyI4LBFGSAnalyticLimits) penaltyI4LBFGSAnalyticOutcome {
-	out := penaltyI4LBFGSAnalyticOutcome{x: x0, status: PenaltyI4LBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
+func penaltyI4LBFGSAnalyticMinimize(x0 [4]float64, lim PenaltyI4LBFGSAnalyticLimits, bounds penaltyI4LBFGSAnalyticBox) penaltyI4LBFGSAnalyticOutcome {
+	x := x0
+	penaltyI4LBFGSAnalyticEnterBox(&x, &bounds)
+	out := penaltyI4LBFGSAnalyticOutcome{x: x, status: PenaltyI4LBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := PenaltyI4(&x)
 	out.f, out.evaluations = fx, 1
 	if !penaltyI4LBFGSAnalyticFinite(fx) || !penaltyI4LBFGSAnalyticFiniteVec(&x) {
 		out.status = PenaltyI4LBFGSAnalyticNonFiniteStart
 		return out
 	}
-	var diffs penaltyI4LBFGSAnalyticDifferences
+	diffs := penaltyI4LBFGSAnalyticDifferences{bounds: bounds}
 	calls, ok := penaltyI4LBFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+penaltyI4LBFGSAnalyticDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [4]float64
-	penaltyI4LBFGSAnalyticDerivative(&x, fx, &g, &diffs)
-	out.evaluations += penaltyI4LBFGSAnalyticDerivativeCost
+	out.evaluations += penaltyI4LBFGSAnalyticDerivative(&x, fx, &g, &diffs)
 
 	if !penaltyI4LBFGSAnalyticFiniteVec(&g) {
 		out.status = PenaltyI4LBFGSAnalyticNonFiniteGradient
@@ -212,7 +215,7 @@ func penaltyI4LBFGSAnalyticMinimize(x0 [4]float64, lim PenaltyI4LBFGSAnalyticLim
 		case !confirmed:
 			penaltyI4LBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := penaltyI4LBFGSAnalyticGradientMeasure(&g, &e, &x, fx)
+		measure, floor := penaltyI4LBFGSAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, penaltyI4LBFGSAnalyticLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -251,16 +254,17 @@ func penaltyI4LBFGSAnalyticMinimize(x0 [4]float64, lim PenaltyI4LBFGSAnalyticLim
 			if rises >= 8 {
 				return best.ending(PenaltyI4LBFGSAnalyticDiverged, out.iterations, out.evaluations)
 			}
+			penaltyI4LBFGSAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(PenaltyI4LBFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		penaltyI4LBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := penaltyI4LBFGSAnalyticDot(&g, &d)
 		if !(now < 0) || !penaltyI4LBFGSAnalyticFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			penaltyI4LBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = penaltyI4LBFGSAnalyticDot(&g, &d)
 		}
 		first := float64(penaltyI4LBFGSAnalyticStepInitial)
@@ -268,7 +272,7 @@ func penaltyI4LBFGSAnalyticMinimize(x0 [4]float64, lim PenaltyI4LBFGSAnalyticLim
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := penaltyI4LBFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := penaltyI4LBFGSAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := penaltyI4LBFGSAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case penaltyI4LBFGSAnalyticSearchOutOfBudget:
@@ -304,8 +308,7 @@ func penaltyI4LBFGSAnalyticMinimize(x0 [4]float64, lim PenaltyI4LBFGSAnalyticLim
 				}
 				return best.ending(PenaltyI4LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			penaltyI4LBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += penaltyI4LBFGSAnalyticDerivativeCost
+			out.evaluations += penaltyI4LBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		penaltyI4LBFGSAnalyticDifference(&s, &xt, &x)
@@ -346,6 +349,9 @@ func (o penaltyI4LBFGSAnalyticOutcome) ending(end PenaltyI4LBFGSAnalyticStatus, 
 	return o
 }
 
+// penaltyI4LBFGSAnalyticEnterBox: without bounds every start is inside.
+func penaltyI4LBFGSAnalyticEnterBox(x *[4]float64, b *penaltyI4LBFGSAnalyticBox) {}
+
 // penaltyI4LBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -368,15 +374,17 @@ func penaltyI4LBFGSAnalyticFiniteVec(x *[4]float64) bool {
 	return true
 }
 
-// penaltyI4LBFGSAnalyticDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// penaltyI4LBFGSAnalyticDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type penaltyI4LBFGSAnalyticDifferences struct {
 	ratio     [4]float64
 	curvature [4]float64
 	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see penaltyI4LBFGSAnalyticRoundingFloor)
+	bounds    penaltyI4LBFGSAnalyticBox
 }
 
 // penaltyI4LBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
@@ -385,8 +393,9 @@ func penaltyI4LBFGSAnalyticCalibrate(x *[4]float64, fx float64, diffs *penaltyI4
 }
 
 // penaltyI4LBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func penaltyI4LBFGSAnalyticDerivative(x *[4]float64, fx float64, g *[4]float64, diffs *penaltyI4LBFGSAnalyticDifferences) {
+func penaltyI4LBFGSAnalyticDerivative(x *[4]float64, fx float64, g *[4]float64, diffs *penaltyI4LBFGSAnalyticDifferences) int {
 	PenaltyI4Grad(x, g)
+	return 0
 }
 
 // penaltyI4LBFGSAnalyticDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
@@ -551,13 +560,13 @@ func penaltyI4LBFGSAnalyticConfirmGradient(x *[4]float64, fx float64, g, e *[4]f
 		wide.ratio[i] *= 2
 	}
 	var doubled [4]float64
-	penaltyI4LBFGSAnalyticDerivative(x, fx, g, diffs)
-	penaltyI4LBFGSAnalyticDerivative(x, fx, &doubled, &wide)
+	calls += penaltyI4LBFGSAnalyticDerivative(x, fx, g, diffs)
+	calls += penaltyI4LBFGSAnalyticDerivative(x, fx, &doubled, &wide)
 	penaltyI4LBFGSAnalyticGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * penaltyI4LBFGSAnalyticAbs(g[i]-doubled[i])
 	}
-	return calls + 2*penaltyI4LBFGSAnalyticDerivativeCost, true
+	return calls, true
 }
 
 // penaltyI4LBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
@@ -599,18 +608,60 @@ func penaltyI4LBFGSAnalyticDiagonalCurvature(x, g *[4]float64, diffs *penaltyI4L
 	var moved [4]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := penaltyI4LBFGSAnalyticProbeStep(xi, penaltyI4LBFGSAnalyticSquareRoot(penaltyI4LBFGSAnalyticUnitRoundoff)*penaltyI4LBFGSAnalyticLarger(1, penaltyI4LBFGSAnalyticAbs(xi)))
-		probe[i] = up
-		PenaltyI4Grad(&probe, &moved)
-		h[i] = penaltyI4LBFGSAnalyticAbs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := penaltyI4LBFGSAnalyticCoordinateRange(i, diffs)
+		up, delta := penaltyI4LBFGSAnalyticProbeStep(xi, penaltyI4LBFGSAnalyticOneSide(xi, penaltyI4LBFGSAnalyticSquareRoot(penaltyI4LBFGSAnalyticUnitRoundoff)*penaltyI4LBFGSAnalyticLarger(1, penaltyI4LBFGSAnalyticAbs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			PenaltyI4Grad(&probe, &moved)
+			h[i] = penaltyI4LBFGSAnalyticAbs(moved[i]-g[i]) / penaltyI4LBFGSAnalyticAbs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// penaltyI4LBFGSAnalyticProbeStep returns x_i moved by h, and the step actually representable.
-func penaltyI4LBFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// penaltyI4LBFGSAnalyticCoordinateRange: without bounds any probe is allowed.
+func penaltyI4LBFGSAnalyticCoordinateRange(i int, diffs *penaltyI4LBFGSAnalyticDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// penaltyI4LBFGSAnalyticProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func penaltyI4LBFGSAnalyticProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := penaltyI4LBFGSAnalyticClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// penaltyI4LBFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func penaltyI4LBFGSAnalyticClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// penaltyI4LBFGSAnalyticOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func penaltyI4LBFGSAnalyticOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // penaltyI4LBFGSAnalyticSquareRoot returns √v.
@@ -626,6 +677,11 @@ func penaltyI4LBFGSAnalyticLarger(a, b float64) float64 {
 		return a
 	}
 	return b
+}
+
+// penaltyI4LBFGSAnalyticStationarity measures the gradient itself.
+func penaltyI4LBFGSAnalyticStationarity(g, e, x *[4]float64, fx float64, b *penaltyI4LBFGSAnalyticBox) (measure, floor float64) {
+	return penaltyI4LBFGSAnalyticGradientMeasure(g, e, x, fx)
 }
 
 // penaltyI4LBFGSAnalyticGradientMeasure is the scale-free measure
@@ -661,6 +717,14 @@ func penaltyI4LBFGSAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
 	return true
 }
 
+// penaltyI4LBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
+func penaltyI4LBFGSAnalyticCurvaturePair(s, y, x *[4]float64, b *penaltyI4LBFGSAnalyticBox) {}
+
+// penaltyI4LBFGSAnalyticSearchDirection is the direction's own.
+func penaltyI4LBFGSAnalyticSearchDirection(dir *penaltyI4LBFGSAnalyticDirection, x, g, d *[4]float64, b *penaltyI4LBFGSAnalyticBox) {
+	dir.compute(g, d)
+}
+
 // penaltyI4LBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func penaltyI4LBFGSAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
@@ -688,7 +752,10 @@ func penaltyI4LBFGSAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (penaltyI4LBFGSAnalyticStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -697,13 +764,17 @@ func penaltyI4LBFGSAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func penaltyI4LBFGSAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *penaltyI4LBFGSAnalyticDifferences) penaltyI4LBFGSAnalyticLineResult {
+func penaltyI4LBFGSAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *penaltyI4LBFGSAnalyticDifferences) penaltyI4LBFGSAnalyticLineResult {
 	low := penaltyI4LBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyI4LBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                      // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend penaltyI4LBFGSAnalyticRiseTrend // of the trials failing sufficient decrease
+	var trend penaltyI4LBFGSAnalyticRiseTrend                         // of the trials failing sufficient decrease
+	limit := penaltyI4LBFGSAnalyticStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < penaltyI4LBFGSAnalyticStepTrials; trial++ {
 		if bracketed && penaltyI4LBFGSAnalyticAbs(high.step-low.step) <= tiny {
@@ -713,12 +784,12 @@ func penaltyI4LBFGSAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64, 
 			if low.step == 0 {
 				return penaltyI4LBFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: penaltyI4LBFGSAnalyticTinyOrExhausted(penaltyI4LBFGSAnalyticFinite(high.value))}
 			}
-			return penaltyI4LBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return penaltyI4LBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return penaltyI4LBFGSAnalyticLineResult{calls: calls, end: penaltyI4LBFGSAnalyticSearchOutOfBudget}
 		}
-		penaltyI4LBFGSAnalyticMoveTo(xt, x, t, d)
+		penaltyI4LBFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := penaltyI4LBFGSAnalyticLinePoint{step: t, value: PenaltyI4(xt)}
 		calls++
 		previous := low
@@ -729,8 +800,7 @@ func penaltyI4LBFGSAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64, 
 			if calls+penaltyI4LBFGSAnalyticDerivativeCost > budget {
 				return penaltyI4LBFGSAnalyticLineResult{calls: calls, end: penaltyI4LBFGSAnalyticSearchOutOfBudget}
 			}
-			penaltyI4LBFGSAnalyticDerivative(xt, current.value, gt, diffs)
-			calls += penaltyI4LBFGSAnalyticDerivativeCost
+			calls += penaltyI4LBFGSAnalyticDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = penaltyI4LBFGSAnalyticDot(gt, d), true
 			switch {
 			case !penaltyI4LBFGSAnalyticFinite(current.slope):
@@ -741,18 +811,22 @@ func penaltyI4LBFGSAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64, 
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return penaltyI4LBFGSAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: penaltyI4LBFGSAnalyticSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = penaltyI4LBFGSAnalyticZoomTrial(&low, &high)
-		} else {
-			t = penaltyI4LBFGSAnalyticExpandTrial(&previous, &current)
+		} else if t = penaltyI4LBFGSAnalyticExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return penaltyI4LBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return penaltyI4LBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return penaltyI4LBFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: penaltyI4LBFGSAnalyticSearchExhausted}
 }
@@ -839,6 +913,11 @@ func penaltyI4LBFGSAnalyticFaithfulStep(x, xt, d *[4]float64, t float64) bool {
 	return true
 }
 
+// penaltyI4LBFGSAnalyticStepCap: without bounds a step may be as long as the search wants.
+func penaltyI4LBFGSAnalyticStepCap(x, d *[4]float64, tiny float64, b *penaltyI4LBFGSAnalyticBox) float64 {
+	return math.Inf(1)
+}
+
 // penaltyI4LBFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -863,10 +942,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func penaltyI4LBFGSAnalyticAcceptLow(x, d *[4]float64, low *penaltyI4LBFGSAnalyticLinePoint, lowGradient *[4]float64, calls int, xt, gt *[4]float64) penaltyI4LBFGSAnalyticLineResult {
-	penaltyI4LBFGSAnalyticMoveTo(xt, x, low.step, d)
+func penaltyI4LBFGSAnalyticAcceptLow(x, d *[4]float64, low *penaltyI4LBFGSAnalyticLinePoint, lowGradient *[4]float64, calls int, xt, gt *[4]float64, diffs *penaltyI4LBFGSAnalyticDifferences) penaltyI4LBFGSAnalyticLineResult {
+	penaltyI4LBFGSAnalyticTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return penaltyI4LBFGSAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: penaltyI4LBFGSAnalyticSearchAccepted}
+}
+
+// penaltyI4LBFGSAnalyticTrialPoint is x + t·d.
+func penaltyI4LBFGSAnalyticTrialPoint(out, x *[4]float64, t float64, d *[4]float64, b *penaltyI4LBFGSAnalyticBox) {
+	penaltyI4LBFGSAnalyticMoveTo(out, x, t, d)
 }
 
 // penaltyI4LBFGSAnalyticMoveTo sets out = x + t·d.
@@ -921,21 +1005,6 @@ func penaltyI4LBFGSAnalyticModelMinimizer(a, b *penaltyI4LBFGSAnalyticLinePoint)
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, penaltyI4LBFGSAnalyticFinite(t)
-}
-
-// penaltyI4LBFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func penaltyI4LBFGSAnalyticClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // penaltyI4LBFGSAnalyticExpandTrial picks a larger trial after current met sufficient decrease

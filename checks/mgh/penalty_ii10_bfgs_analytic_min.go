@@ -88,6 +88,9 @@ func PenaltyII10BFGSAnalyticDefaultLimits() PenaltyII10BFGSAnalyticLimits {
 	}
 }
 
+// penaltyII10BFGSAnalyticBox is empty: mgh.toml sets no bounds on PenaltyII10BFGSAnalytic.
+type penaltyII10BFGSAnalyticBox struct{}
+
 // PenaltyII10BFGSAnalytic minimizes PenaltyII10 from x0, as mgh.toml specifies.
 //
 // Direction bfgs: BFGS quasi-Newton with a dense inverse-Hessian approximation (dim² numbers).
@@ -105,7 +108,7 @@ func PenaltyII10BFGSAnalytic(x0 [10]float64) PenaltyII10BFGSAnalyticResult {
 
 // PenaltyII10BFGSAnalyticWithLimits is PenaltyII10BFGSAnalytic with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func PenaltyII10BFGSAnalyticWithLimits(x0 [10]float64, limits PenaltyII10BFGSAnalyticLimits) PenaltyII10BFGSAnalyticResult {
-	out := penaltyII10BFGSAnalyticMinimize(x0, limits)
+	out := penaltyII10BFGSAnalyticMinimize(x0, limits, penaltyII10BFGSAnalyticBox{})
 	return PenaltyII10BFGSAnalyticResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func penaltyII10BFGSAnalyticMinimize(x0 [10]float64, lim PenaltyII10BFGSAnalyticLimits) penaltyII10BFGSAnalyticOutcome {
-	out := penaltyII10BFGSAnalyticOutcome{x: x0, status: PenaltyII10BFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
+func penaltyII10BFGSAnalyticMinimize(x0 [10]float64, lim PenaltyII10BFGSAnalyticLimits, bounds penaltyII10BFGSAnalyticBox) penaltyII10BFGSAnalyticOutcome {
+	x := x0
+	penaltyII10BFGSAnalyticEnterBox(&x, &bounds)
+	out := penaltyII10BFGSAnalyticOutcome{x: x, status: PenaltyII10BFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := PenaltyII10(&x)
 	out.f, out.evaluations = fx, 1
 	if !penaltyII10BFGSAnalyticFinite(fx) || !penaltyII10BFGSAnalyticFiniteVec(&x) {
 		out.status = PenaltyII10BFGSAnalyticNonFiniteStart
 		return out
 	}
-	var diffs penaltyII10BFGSAnalyticDifferences
+	diffs := penaltyII10BFGSAnalyticDifferences{bounds: bounds}
 	calls, ok := penaltyII10BFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+penaltyII10BFGSAnalyticDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [10]float64
-	penaltyII10BFGSAnalyticDerivative(&x, fx, &g, &diffs)
-	out.evaluations += penaltyII10BFGSAnalyticDerivativeCost
+	out.evaluations += penaltyII10BFGSAnalyticDerivative(&x, fx, &g, &diffs)
 
 	if !penaltyII10BFGSAnalyticFiniteVec(&g) {
 		out.status = PenaltyII10BFGSAnalyticNonFiniteGradient
@@ -211,7 +214,7 @@ func penaltyII10BFGSAnalyticMinimize(x0 [10]float64, lim PenaltyII10BFGSAnalytic
 		case !confirmed:
 			penaltyII10BFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := penaltyII10BFGSAnalyticGradientMeasure(&g, &e, &x, fx)
+		measure, floor := penaltyII10BFGSAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, penaltyII10BFGSAnalyticLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func penaltyII10BFGSAnalyticMinimize(x0 [10]float64, lim PenaltyII10BFGSAnalytic
 			if rises >= 8 {
 				return best.ending(PenaltyII10BFGSAnalyticDiverged, out.iterations, out.evaluations)
 			}
+			penaltyII10BFGSAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(PenaltyII10BFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		penaltyII10BFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := penaltyII10BFGSAnalyticDot(&g, &d)
 		if !(now < 0) || !penaltyII10BFGSAnalyticFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			penaltyII10BFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = penaltyII10BFGSAnalyticDot(&g, &d)
 		}
 		first := float64(penaltyII10BFGSAnalyticStepInitial)
@@ -267,7 +271,7 @@ func penaltyII10BFGSAnalyticMinimize(x0 [10]float64, lim PenaltyII10BFGSAnalytic
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := penaltyII10BFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := penaltyII10BFGSAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := penaltyII10BFGSAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case penaltyII10BFGSAnalyticSearchOutOfBudget:
@@ -303,8 +307,7 @@ func penaltyII10BFGSAnalyticMinimize(x0 [10]float64, lim PenaltyII10BFGSAnalytic
 				}
 				return best.ending(PenaltyII10BFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			penaltyII10BFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += penaltyII10BFGSAnalyticDerivativeCost
+			out.evaluations += penaltyII10BFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		penaltyII10BFGSAnalyticDifference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o penaltyII10BFGSAnalyticOutcome) ending(end PenaltyII10BFGSAnalyticStatus
 	return o
 }
 
+// penaltyII10BFGSAnalyticEnterBox: without bounds every start is inside.
+func penaltyII10BFGSAnalyticEnterBox(x *[10]float64, b *penaltyII10BFGSAnalyticBox) {}
+
 // penaltyII10BFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func penaltyII10BFGSAnalyticFiniteVec(x *[10]float64) bool {
 	return true
 }
 
-// penaltyII10BFGSAnalyticDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// penaltyII10BFGSAnalyticDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type penaltyII10BFGSAnalyticDifferences struct {
 	ratio     [10]float64
 	curvature [10]float64
 	second    [10]float64 // |f″| along e_i, for the rounding floor of a stall (see penaltyII10BFGSAnalyticRoundingFloor)
+	bounds    penaltyII10BFGSAnalyticBox
 }
 
 // penaltyII10BFGSAnalyticCalibrate: an analytic gradient needs no intervals.
@@ -384,8 +392,9 @@ func penaltyII10BFGSAnalyticCalibrate(x *[10]float64, fx float64, diffs *penalty
 }
 
 // penaltyII10BFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func penaltyII10BFGSAnalyticDerivative(x *[10]float64, fx float64, g *[10]float64, diffs *penaltyII10BFGSAnalyticDifferences) {
+func penaltyII10BFGSAnalyticDerivative(x *[10]float64, fx float64, g *[10]float64, diffs *penaltyII10BFGSAnalyticDifferences) int {
 	PenaltyII10Grad(x, g)
+	return 0
 }
 
 // penaltyII10BFGSAnalyticDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
@@ -525,13 +534,13 @@ func penaltyII10BFGSAnalyticConfirmGradient(x *[10]float64, fx float64, g, e *[1
 		wide.ratio[i] *= 2
 	}
 	var doubled [10]float64
-	penaltyII10BFGSAnalyticDerivative(x, fx, g, diffs)
-	penaltyII10BFGSAnalyticDerivative(x, fx, &doubled, &wide)
+	calls += penaltyII10BFGSAnalyticDerivative(x, fx, g, diffs)
+	calls += penaltyII10BFGSAnalyticDerivative(x, fx, &doubled, &wide)
 	penaltyII10BFGSAnalyticGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * penaltyII10BFGSAnalyticAbs(g[i]-doubled[i])
 	}
-	return calls + 2*penaltyII10BFGSAnalyticDerivativeCost, true
+	return calls, true
 }
 
 // penaltyII10BFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
@@ -573,18 +582,60 @@ func penaltyII10BFGSAnalyticDiagonalCurvature(x, g *[10]float64, diffs *penaltyI
 	var moved [10]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := penaltyII10BFGSAnalyticProbeStep(xi, penaltyII10BFGSAnalyticSquareRoot(penaltyII10BFGSAnalyticUnitRoundoff)*penaltyII10BFGSAnalyticLarger(1, penaltyII10BFGSAnalyticAbs(xi)))
-		probe[i] = up
-		PenaltyII10Grad(&probe, &moved)
-		h[i] = penaltyII10BFGSAnalyticAbs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := penaltyII10BFGSAnalyticCoordinateRange(i, diffs)
+		up, delta := penaltyII10BFGSAnalyticProbeStep(xi, penaltyII10BFGSAnalyticOneSide(xi, penaltyII10BFGSAnalyticSquareRoot(penaltyII10BFGSAnalyticUnitRoundoff)*penaltyII10BFGSAnalyticLarger(1, penaltyII10BFGSAnalyticAbs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			PenaltyII10Grad(&probe, &moved)
+			h[i] = penaltyII10BFGSAnalyticAbs(moved[i]-g[i]) / penaltyII10BFGSAnalyticAbs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// penaltyII10BFGSAnalyticProbeStep returns x_i moved by h, and the step actually representable.
-func penaltyII10BFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// penaltyII10BFGSAnalyticCoordinateRange: without bounds any probe is allowed.
+func penaltyII10BFGSAnalyticCoordinateRange(i int, diffs *penaltyII10BFGSAnalyticDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// penaltyII10BFGSAnalyticProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func penaltyII10BFGSAnalyticProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := penaltyII10BFGSAnalyticClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// penaltyII10BFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func penaltyII10BFGSAnalyticClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// penaltyII10BFGSAnalyticOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func penaltyII10BFGSAnalyticOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // penaltyII10BFGSAnalyticSquareRoot returns √v.
@@ -600,6 +651,11 @@ func penaltyII10BFGSAnalyticLarger(a, b float64) float64 {
 		return a
 	}
 	return b
+}
+
+// penaltyII10BFGSAnalyticStationarity measures the gradient itself.
+func penaltyII10BFGSAnalyticStationarity(g, e, x *[10]float64, fx float64, b *penaltyII10BFGSAnalyticBox) (measure, floor float64) {
+	return penaltyII10BFGSAnalyticGradientMeasure(g, e, x, fx)
 }
 
 // penaltyII10BFGSAnalyticGradientMeasure is the scale-free measure
@@ -635,6 +691,14 @@ func penaltyII10BFGSAnalyticStepWithin(s, x *[10]float64, tol float64) bool {
 	return true
 }
 
+// penaltyII10BFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
+func penaltyII10BFGSAnalyticCurvaturePair(s, y, x *[10]float64, b *penaltyII10BFGSAnalyticBox) {}
+
+// penaltyII10BFGSAnalyticSearchDirection is the direction's own.
+func penaltyII10BFGSAnalyticSearchDirection(dir *penaltyII10BFGSAnalyticDirection, x, g, d *[10]float64, b *penaltyII10BFGSAnalyticBox) {
+	dir.compute(g, d)
+}
+
 // penaltyII10BFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func penaltyII10BFGSAnalyticTinyStep(x, d *[10]float64, tol float64) float64 {
@@ -662,7 +726,10 @@ func penaltyII10BFGSAnalyticTinyStep(x, d *[10]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (penaltyII10BFGSAnalyticStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -671,13 +738,17 @@ func penaltyII10BFGSAnalyticTinyStep(x, d *[10]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func penaltyII10BFGSAnalyticLineSearch(x *[10]float64, fx float64, d *[10]float64, slope, first, tiny float64, budget int, xt, gt *[10]float64, diffs *penaltyII10BFGSAnalyticDifferences) penaltyII10BFGSAnalyticLineResult {
+func penaltyII10BFGSAnalyticLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first, tiny float64, budget int, xt, gt *[10]float64, diffs *penaltyII10BFGSAnalyticDifferences) penaltyII10BFGSAnalyticLineResult {
 	low := penaltyII10BFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyII10BFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                      // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend penaltyII10BFGSAnalyticRiseTrend // of the trials failing sufficient decrease
+	var trend penaltyII10BFGSAnalyticRiseTrend                         // of the trials failing sufficient decrease
+	limit := penaltyII10BFGSAnalyticStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < penaltyII10BFGSAnalyticStepTrials; trial++ {
 		if bracketed && penaltyII10BFGSAnalyticAbs(high.step-low.step) <= tiny {
@@ -687,12 +758,12 @@ func penaltyII10BFGSAnalyticLineSearch(x *[10]float64, fx float64, d *[10]float6
 			if low.step == 0 {
 				return penaltyII10BFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: penaltyII10BFGSAnalyticTinyOrExhausted(penaltyII10BFGSAnalyticFinite(high.value))}
 			}
-			return penaltyII10BFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return penaltyII10BFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return penaltyII10BFGSAnalyticLineResult{calls: calls, end: penaltyII10BFGSAnalyticSearchOutOfBudget}
 		}
-		penaltyII10BFGSAnalyticMoveTo(xt, x, t, d)
+		penaltyII10BFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := penaltyII10BFGSAnalyticLinePoint{step: t, value: PenaltyII10(xt)}
 		calls++
 		previous := low
@@ -703,8 +774,7 @@ func penaltyII10BFGSAnalyticLineSearch(x *[10]float64, fx float64, d *[10]float6
 			if calls+penaltyII10BFGSAnalyticDerivativeCost > budget {
 				return penaltyII10BFGSAnalyticLineResult{calls: calls, end: penaltyII10BFGSAnalyticSearchOutOfBudget}
 			}
-			penaltyII10BFGSAnalyticDerivative(xt, current.value, gt, diffs)
-			calls += penaltyII10BFGSAnalyticDerivativeCost
+			calls += penaltyII10BFGSAnalyticDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = penaltyII10BFGSAnalyticDot(gt, d), true
 			switch {
 			case !penaltyII10BFGSAnalyticFinite(current.slope):
@@ -715,18 +785,22 @@ func penaltyII10BFGSAnalyticLineSearch(x *[10]float64, fx float64, d *[10]float6
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return penaltyII10BFGSAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: penaltyII10BFGSAnalyticSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = penaltyII10BFGSAnalyticZoomTrial(&low, &high)
-		} else {
-			t = penaltyII10BFGSAnalyticExpandTrial(&previous, &current)
+		} else if t = penaltyII10BFGSAnalyticExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return penaltyII10BFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return penaltyII10BFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return penaltyII10BFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: penaltyII10BFGSAnalyticSearchExhausted}
 }
@@ -813,6 +887,11 @@ func penaltyII10BFGSAnalyticFaithfulStep(x, xt, d *[10]float64, t float64) bool 
 	return true
 }
 
+// penaltyII10BFGSAnalyticStepCap: without bounds a step may be as long as the search wants.
+func penaltyII10BFGSAnalyticStepCap(x, d *[10]float64, tiny float64, b *penaltyII10BFGSAnalyticBox) float64 {
+	return math.Inf(1)
+}
+
 // penaltyII10BFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -837,10 +916,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func penaltyII10BFGSAnalyticAcceptLow(x, d *[10]float64, low *penaltyII10BFGSAnalyticLinePoint, lowGradient *[10]float64, calls int, xt, gt *[10]float64) penaltyII10BFGSAnalyticLineResult {
-	penaltyII10BFGSAnalyticMoveTo(xt, x, low.step, d)
+func penaltyII10BFGSAnalyticAcceptLow(x, d *[10]float64, low *penaltyII10BFGSAnalyticLinePoint, lowGradient *[10]float64, calls int, xt, gt *[10]float64, diffs *penaltyII10BFGSAnalyticDifferences) penaltyII10BFGSAnalyticLineResult {
+	penaltyII10BFGSAnalyticTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return penaltyII10BFGSAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: penaltyII10BFGSAnalyticSearchAccepted}
+}
+
+// penaltyII10BFGSAnalyticTrialPoint is x + t·d.
+func penaltyII10BFGSAnalyticTrialPoint(out, x *[10]float64, t float64, d *[10]float64, b *penaltyII10BFGSAnalyticBox) {
+	penaltyII10BFGSAnalyticMoveTo(out, x, t, d)
 }
 
 // penaltyII10BFGSAnalyticMoveTo sets out = x + t·d.
@@ -895,21 +979,6 @@ func penaltyII10BFGSAnalyticModelMinimizer(a, b *penaltyII10BFGSAnalyticLinePoin
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, penaltyII10BFGSAnalyticFinite(t)
-}
-
-// penaltyII10BFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func penaltyII10BFGSAnalyticClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // penaltyII10BFGSAnalyticExpandTrial picks a larger trial after current met sufficient decrease

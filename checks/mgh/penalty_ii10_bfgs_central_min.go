@@ -88,6 +88,9 @@ func PenaltyII10BFGSCentralDefaultLimits() PenaltyII10BFGSCentralLimits {
 	}
 }
 
+// penaltyII10BFGSCentralBox is empty: mgh.toml sets no bounds on PenaltyII10BFGSCentral.
+type penaltyII10BFGSCentralBox struct{}
+
 // PenaltyII10BFGSCentral minimizes PenaltyII10 from x0, as mgh.toml specifies.
 //
 // Direction bfgs: BFGS quasi-Newton with a dense inverse-Hessian approximation (dim² numbers).
@@ -105,7 +108,7 @@ func PenaltyII10BFGSCentral(x0 [10]float64) PenaltyII10BFGSCentralResult {
 
 // PenaltyII10BFGSCentralWithLimits is PenaltyII10BFGSCentral with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func PenaltyII10BFGSCentralWithLimits(x0 [10]float64, limits PenaltyII10BFGSCentralLimits) PenaltyII10BFGSCentralResult {
-	out := penaltyII10BFGSCentralMinimize(x0, limits)
+	out := penaltyII10BFGSCentralMinimize(x0, limits, penaltyII10BFGSCentralBox{})
 	return PenaltyII10BFGSCentralResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func penaltyII10BFGSCentralMinimize(x0 [10]float64, lim PenaltyII10BFGSCentralLimits) penaltyII10BFGSCentralOutcome {
-	out := penaltyII10BFGSCentralOutcome{x: x0, status: PenaltyII10BFGSCentralOutOfEvaluations, gradient: math.NaN()}
+func penaltyII10BFGSCentralMinimize(x0 [10]float64, lim PenaltyII10BFGSCentralLimits, bounds penaltyII10BFGSCentralBox) penaltyII10BFGSCentralOutcome {
+	x := x0
+	penaltyII10BFGSCentralEnterBox(&x, &bounds)
+	out := penaltyII10BFGSCentralOutcome{x: x, status: PenaltyII10BFGSCentralOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := PenaltyII10(&x)
 	out.f, out.evaluations = fx, 1
 	if !penaltyII10BFGSCentralFinite(fx) || !penaltyII10BFGSCentralFiniteVec(&x) {
 		out.status = PenaltyII10BFGSCentralNonFiniteStart
 		return out
 	}
-	var diffs penaltyII10BFGSCentralDifferences
+	diffs := penaltyII10BFGSCentralDifferences{bounds: bounds}
 	calls, ok := penaltyII10BFGSCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+penaltyII10BFGSCentralDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [10]float64
-	penaltyII10BFGSCentralDerivative(&x, fx, &g, &diffs)
-	out.evaluations += penaltyII10BFGSCentralDerivativeCost
+	out.evaluations += penaltyII10BFGSCentralDerivative(&x, fx, &g, &diffs)
 
 	if !penaltyII10BFGSCentralFiniteVec(&g) {
 		out.status = PenaltyII10BFGSCentralNonFiniteGradient
@@ -211,7 +214,7 @@ func penaltyII10BFGSCentralMinimize(x0 [10]float64, lim PenaltyII10BFGSCentralLi
 		case !confirmed:
 			penaltyII10BFGSCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := penaltyII10BFGSCentralGradientMeasure(&g, &e, &x, fx)
+		measure, floor := penaltyII10BFGSCentralStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, penaltyII10BFGSCentralLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func penaltyII10BFGSCentralMinimize(x0 [10]float64, lim PenaltyII10BFGSCentralLi
 			if rises >= 8 {
 				return best.ending(PenaltyII10BFGSCentralDiverged, out.iterations, out.evaluations)
 			}
+			penaltyII10BFGSCentralCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(PenaltyII10BFGSCentralOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		penaltyII10BFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := penaltyII10BFGSCentralDot(&g, &d)
 		if !(now < 0) || !penaltyII10BFGSCentralFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			penaltyII10BFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = penaltyII10BFGSCentralDot(&g, &d)
 		}
 		first := float64(penaltyII10BFGSCentralStepInitial)
@@ -267,7 +271,7 @@ func penaltyII10BFGSCentralMinimize(x0 [10]float64, lim PenaltyII10BFGSCentralLi
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := penaltyII10BFGSCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := penaltyII10BFGSCentralLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := penaltyII10BFGSCentralLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case penaltyII10BFGSCentralSearchOutOfBudget:
@@ -303,8 +307,7 @@ func penaltyII10BFGSCentralMinimize(x0 [10]float64, lim PenaltyII10BFGSCentralLi
 				}
 				return best.ending(PenaltyII10BFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			penaltyII10BFGSCentralDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += penaltyII10BFGSCentralDerivativeCost
+			out.evaluations += penaltyII10BFGSCentralDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		penaltyII10BFGSCentralDifference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o penaltyII10BFGSCentralOutcome) ending(end PenaltyII10BFGSCentralStatus, 
 	return o
 }
 
+// penaltyII10BFGSCentralEnterBox: without bounds every start is inside.
+func penaltyII10BFGSCentralEnterBox(x *[10]float64, b *penaltyII10BFGSCentralBox) {}
+
 // penaltyII10BFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func penaltyII10BFGSCentralFiniteVec(x *[10]float64) bool {
 	return true
 }
 
-// penaltyII10BFGSCentralDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// penaltyII10BFGSCentralDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type penaltyII10BFGSCentralDifferences struct {
 	ratio     [10]float64
 	curvature [10]float64
 	second    [10]float64 // |f″| along e_i, for the rounding floor of a stall (see penaltyII10BFGSCentralRoundingFloor)
+	bounds    penaltyII10BFGSCentralBox
 }
 
 // penaltyII10BFGSCentralCalibrate chooses each central-difference interval from the
@@ -397,19 +405,45 @@ func penaltyII10BFGSCentralCalibrate(x *[10]float64, fx float64, diffs *penaltyI
 	var slope [10]float64
 	scale := penaltyII10BFGSCentralAbs(fx)
 	quarter := penaltyII10BFGSCentralSquareRoot(penaltyII10BFGSCentralSquareRoot(penaltyII10BFGSCentralUnitRoundoff)) // u^(1/4)
+	calls := 0
 	for i := range probe {
-		if 4*(i+1) > budget {
-			return 4 * i, false
+		if calls+4 > budget {
+			return calls, false
 		}
 		xi := probe[i]
 		bar := quarter * penaltyII10BFGSCentralLarger(1, penaltyII10BFGSCentralAbs(xi))
+		lower, upper := penaltyII10BFGSCentralCoordinateRange(i, diffs)
+		if xi+2*bar > upper || xi-2*bar < lower {
+			// At a bound: three probes on the side with room, at h, 2h
+			// and 3h, for f‴ ≈ (f(3h) − 3f(2h) + 3f(h) − f(0))/h³ (the
+			// third forward difference).
+			h := penaltyII10BFGSCentralOneSide(xi, bar, 3, lower, upper)
+			if h == 0 {
+				continue // fixed by equal bounds
+			}
+			var f [3]float64
+			for k := range f {
+				probe[i], _ = penaltyII10BFGSCentralProbeStep(xi, float64(k+1)*h, lower, upper)
+				f[k] = PenaltyII10(&probe)
+				scale = penaltyII10BFGSCentralLarger(scale, penaltyII10BFGSCentralMagnitude(f[k]))
+			}
+			probe[i] = xi
+			calls += 3
+			if penaltyII10BFGSCentralFinite(f[0]) && penaltyII10BFGSCentralFinite(f[1]) && penaltyII10BFGSCentralFinite(f[2]) {
+				diffs.curvature[i] = penaltyII10BFGSCentralAbs(f[2]-3*f[1]+3*f[0]-fx) / penaltyII10BFGSCentralAbs(h*h*h)
+				diffs.second[i] = penaltyII10BFGSCentralAbs(fx-2*f[0]+f[1]) / (h * h)
+				slope[i] = (-3*fx + 4*f[0] - f[1]) / (2 * h)
+			}
+			continue
+		}
 		var f [4]float64
 		for k, m := range [4]float64{2, 1, -1, -2} {
-			probe[i], _ = penaltyII10BFGSCentralProbeStep(xi, m*bar)
+			probe[i], _ = penaltyII10BFGSCentralProbeStep(xi, m*bar, lower, upper)
 			f[k] = PenaltyII10(&probe)
 			scale = penaltyII10BFGSCentralLarger(scale, penaltyII10BFGSCentralMagnitude(f[k]))
 		}
 		probe[i] = xi
+		calls += 4
 		if penaltyII10BFGSCentralFinite(f[0]) && penaltyII10BFGSCentralFinite(f[1]) && penaltyII10BFGSCentralFinite(f[2]) && penaltyII10BFGSCentralFinite(f[3]) {
 			diffs.curvature[i] = penaltyII10BFGSCentralAbs(f[0]-2*f[1]+2*f[2]-f[3]) / (2 * bar * bar * bar)
 			diffs.second[i] = penaltyII10BFGSCentralAbs(f[1]-2*fx+f[2]) / (bar * bar)
@@ -428,7 +462,7 @@ func penaltyII10BFGSCentralCalibrate(x *[10]float64, fx float64, diffs *penaltyI
 		diffs.ratio[i] = penaltyII10BFGSCentralClampBetween(h, 64*penaltyII10BFGSCentralUnitRoundoff*s, bar) / s
 		diffs.curvature[i] = third
 	}
-	return 4 * len(probe), true
+	return calls, true
 }
 
 // penaltyII10BFGSCentralAbs returns |v|.
@@ -454,10 +488,48 @@ func penaltyII10BFGSCentralLarger(a, b float64) float64 {
 	return b
 }
 
-// penaltyII10BFGSCentralProbeStep returns x_i moved by h, and the step actually representable.
-func penaltyII10BFGSCentralProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// penaltyII10BFGSCentralCoordinateRange: without bounds any probe is allowed.
+func penaltyII10BFGSCentralCoordinateRange(i int, diffs *penaltyII10BFGSCentralDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// penaltyII10BFGSCentralOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func penaltyII10BFGSCentralOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
+}
+
+// penaltyII10BFGSCentralProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func penaltyII10BFGSCentralProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := penaltyII10BFGSCentralClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// penaltyII10BFGSCentralClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func penaltyII10BFGSCentralClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
 }
 
 // penaltyII10BFGSCentralMagnitude is |v| for a finite v and 0 otherwise: a probe that fell
@@ -493,42 +565,85 @@ func penaltyII10BFGSCentralCubeRoot(v float64) float64 {
 	return math.Cbrt(v)
 }
 
-// penaltyII10BFGSCentralClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func penaltyII10BFGSCentralClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
-}
-
 // penaltyII10BFGSCentralDerivative approximates the gradient by central differences,
 //
 //	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),
 //
 // with the intervals penaltyII10BFGSCentralCalibrate chose, h_i = ratio_i·max(1, |x_i|)
-// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls; fx is
-// not needed.
-func penaltyII10BFGSCentralDerivative(x *[10]float64, fx float64, g *[10]float64, diffs *penaltyII10BFGSCentralDifferences) {
+// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls. Where
+// a bound leaves no room on one side, the three-point endpoint formula on
+// the other side takes its place at the same cost (see parabola); a
+// variable fixed by equal bounds costs nothing and gets 0.
+func penaltyII10BFGSCentralDerivative(x *[10]float64, fx float64, g *[10]float64, diffs *penaltyII10BFGSCentralDifferences) int {
 	probe := *x
+	calls := 0
 	for i := range probe {
 		xi := probe[i]
-		h := diffs.ratio[i] * penaltyII10BFGSCentralLarger(1, penaltyII10BFGSCentralAbs(xi))
-		up, _ := penaltyII10BFGSCentralProbeStep(xi, h)
-		down, _ := penaltyII10BFGSCentralProbeStep(xi, -h)
-		probe[i] = up
-		fUp := PenaltyII10(&probe)
-		probe[i] = down
-		fDown := PenaltyII10(&probe)
-		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
-		probe[i] = xi
+		h, oneSided := penaltyII10BFGSCentralCentralInterval(x, i, diffs)
+		lower, upper := penaltyII10BFGSCentralCoordinateRange(i, diffs)
+		switch {
+		case h == 0:
+			g[i] = 0 // fixed by equal bounds
+			continue
+		case oneSided:
+			g[i], _, _ = penaltyII10BFGSCentralSidedProbes(&probe, i, fx, h, lower, upper) // the three-point endpoint formula
+		default:
+			up, _ := penaltyII10BFGSCentralProbeStep(xi, h, lower, upper)
+			down, _ := penaltyII10BFGSCentralProbeStep(xi, -h, lower, upper)
+			probe[i] = up
+			fUp := PenaltyII10(&probe)
+			probe[i] = down
+			fDown := PenaltyII10(&probe)
+			g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+			probe[i] = xi
+		}
+		calls += 2
 	}
+	return calls
+}
+
+// penaltyII10BFGSCentralCentralInterval is the interval of coordinate i at x, ratio_i·max(1,
+// |x_i|), and whether the box leaves room for probes on both sides; when
+// it does not, the interval is signed towards the side with room for
+// probes at h and 2h, and shortened where the box is narrower than that
+// (see penaltyII10BFGSCentralOneSide).
+func penaltyII10BFGSCentralCentralInterval(x *[10]float64, i int, diffs *penaltyII10BFGSCentralDifferences) (h float64, oneSided bool) {
+	lower, upper := penaltyII10BFGSCentralCoordinateRange(i, diffs)
+	h = diffs.ratio[i] * penaltyII10BFGSCentralLarger(1, penaltyII10BFGSCentralAbs(x[i]))
+	if x[i]+h <= upper && x[i]-h >= lower {
+		return h, false
+	}
+	return penaltyII10BFGSCentralOneSide(x[i], h, 2, lower, upper), true
+}
+
+// penaltyII10BFGSCentralSidedProbes evaluates f at x moved along coordinate i by h and by 2h,
+// kept within [lower, upper], and returns the slope and second derivative
+// of the parabola through them and (x, fx) (see parabola), and the larger
+// magnitude of the two values.
+func penaltyII10BFGSCentralSidedProbes(probe *[10]float64, i int, fx, h, lower, upper float64) (slope, second, size float64) {
+	xi := probe[i]
+	near, a := penaltyII10BFGSCentralProbeStep(xi, h, lower, upper)
+	far, b := penaltyII10BFGSCentralProbeStep(xi, 2*h, lower, upper)
+	probe[i] = near
+	fNear := PenaltyII10(probe)
+	probe[i] = far
+	fFar := PenaltyII10(probe)
+	probe[i] = xi
+	slope, second = penaltyII10BFGSCentralParabola(fx, a, fNear, b, fFar)
+	return slope, second, penaltyII10BFGSCentralLarger(penaltyII10BFGSCentralMagnitude(fNear), penaltyII10BFGSCentralMagnitude(fFar))
+}
+
+// penaltyII10BFGSCentralParabola returns the first and second derivatives at 0 of the parabola
+// through (0, f0), (a, fa) and (b, fb), for probes on one side of a bound.
+// With b = 2a they are the three-point endpoint formulas
+// f′ ≈ (−3f0 + 4fa − fb)/(2a), error a²|f‴|/3, and
+// f″ ≈ (f0 − 2fa + fb)/a² (Burden & Faires, Numerical Analysis, §4.1
+// and §4.1's second-derivative formulas, from memory); written for unequal
+// a and b, so that the representable steps can be used.
+func penaltyII10BFGSCentralParabola(f0, a, fa, b, fb float64) (slope, second float64) {
+	slope = -(a+b)/(a*b)*f0 + b/(a*(b-a))*fa - a/(b*(b-a))*fb
+	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
+	return slope, second
 }
 
 // penaltyII10BFGSCentralDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
@@ -668,13 +783,13 @@ func penaltyII10BFGSCentralConfirmGradient(x *[10]float64, fx float64, g, e *[10
 		wide.ratio[i] *= 2
 	}
 	var doubled [10]float64
-	penaltyII10BFGSCentralDerivative(x, fx, g, diffs)
-	penaltyII10BFGSCentralDerivative(x, fx, &doubled, &wide)
+	calls += penaltyII10BFGSCentralDerivative(x, fx, g, diffs)
+	calls += penaltyII10BFGSCentralDerivative(x, fx, &doubled, &wide)
 	penaltyII10BFGSCentralGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * penaltyII10BFGSCentralAbs(g[i]-doubled[i])
 	}
-	return calls + 2*penaltyII10BFGSCentralDerivativeCost, true
+	return calls, true
 }
 
 // penaltyII10BFGSCentralGradientError bounds each central difference's error by twice its
@@ -684,8 +799,16 @@ func penaltyII10BFGSCentralConfirmGradient(x *[10]float64, fx float64, g, e *[10
 func penaltyII10BFGSCentralGradientError(x *[10]float64, fx float64, g, e *[10]float64, diffs *penaltyII10BFGSCentralDifferences) {
 	noise := penaltyII10BFGSCentralNoiseLevel(x, fx, g)
 	for i := range e {
-		h := diffs.ratio[i] * penaltyII10BFGSCentralLarger(1, penaltyII10BFGSCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		h, oneSided := penaltyII10BFGSCentralCentralInterval(x, i, diffs)
+		h = penaltyII10BFGSCentralAbs(h)
+		switch {
+		case h == 0:
+			e[i] = 0 // fixed by equal bounds
+		case oneSided:
+			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+		default:
+			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		}
 	}
 }
 
@@ -707,6 +830,11 @@ func penaltyII10BFGSCentralRoundingFloor(x, g, e *[10]float64, diffs *penaltyII1
 // calibration, which penaltyII10BFGSCentralConfirmGradient has just made at x.
 func penaltyII10BFGSCentralDiagonalCurvature(x, g *[10]float64, diffs *penaltyII10BFGSCentralDifferences, h *[10]float64) {
 	*h = diffs.second
+}
+
+// penaltyII10BFGSCentralStationarity measures the gradient itself.
+func penaltyII10BFGSCentralStationarity(g, e, x *[10]float64, fx float64, b *penaltyII10BFGSCentralBox) (measure, floor float64) {
+	return penaltyII10BFGSCentralGradientMeasure(g, e, x, fx)
 }
 
 // penaltyII10BFGSCentralGradientMeasure is the scale-free measure
@@ -742,6 +870,14 @@ func penaltyII10BFGSCentralStepWithin(s, x *[10]float64, tol float64) bool {
 	return true
 }
 
+// penaltyII10BFGSCentralCurvaturePair: without bounds the pair is used as it is.
+func penaltyII10BFGSCentralCurvaturePair(s, y, x *[10]float64, b *penaltyII10BFGSCentralBox) {}
+
+// penaltyII10BFGSCentralSearchDirection is the direction's own.
+func penaltyII10BFGSCentralSearchDirection(dir *penaltyII10BFGSCentralDirection, x, g, d *[10]float64, b *penaltyII10BFGSCentralBox) {
+	dir.compute(g, d)
+}
+
 // penaltyII10BFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func penaltyII10BFGSCentralTinyStep(x, d *[10]float64, tol float64) float64 {
@@ -769,7 +905,10 @@ func penaltyII10BFGSCentralTinyStep(x, d *[10]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (penaltyII10BFGSCentralStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -778,13 +917,17 @@ func penaltyII10BFGSCentralTinyStep(x, d *[10]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func penaltyII10BFGSCentralLineSearch(x *[10]float64, fx float64, d *[10]float64, slope, first, tiny float64, budget int, xt, gt *[10]float64, diffs *penaltyII10BFGSCentralDifferences) penaltyII10BFGSCentralLineResult {
+func penaltyII10BFGSCentralLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first, tiny float64, budget int, xt, gt *[10]float64, diffs *penaltyII10BFGSCentralDifferences) penaltyII10BFGSCentralLineResult {
 	low := penaltyII10BFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyII10BFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                     // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend penaltyII10BFGSCentralRiseTrend // of the trials failing sufficient decrease
+	var trend penaltyII10BFGSCentralRiseTrend                         // of the trials failing sufficient decrease
+	limit := penaltyII10BFGSCentralStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < penaltyII10BFGSCentralStepTrials; trial++ {
 		if bracketed && penaltyII10BFGSCentralAbs(high.step-low.step) <= tiny {
@@ -794,12 +937,12 @@ func penaltyII10BFGSCentralLineSearch(x *[10]float64, fx float64, d *[10]float64
 			if low.step == 0 {
 				return penaltyII10BFGSCentralLineResult{calls: calls, rising: trend.contradicts(), end: penaltyII10BFGSCentralTinyOrExhausted(penaltyII10BFGSCentralFinite(high.value))}
 			}
-			return penaltyII10BFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return penaltyII10BFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return penaltyII10BFGSCentralLineResult{calls: calls, end: penaltyII10BFGSCentralSearchOutOfBudget}
 		}
-		penaltyII10BFGSCentralMoveTo(xt, x, t, d)
+		penaltyII10BFGSCentralTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := penaltyII10BFGSCentralLinePoint{step: t, value: PenaltyII10(xt)}
 		calls++
 		previous := low
@@ -810,8 +953,7 @@ func penaltyII10BFGSCentralLineSearch(x *[10]float64, fx float64, d *[10]float64
 			if calls+penaltyII10BFGSCentralDerivativeCost > budget {
 				return penaltyII10BFGSCentralLineResult{calls: calls, end: penaltyII10BFGSCentralSearchOutOfBudget}
 			}
-			penaltyII10BFGSCentralDerivative(xt, current.value, gt, diffs)
-			calls += penaltyII10BFGSCentralDerivativeCost
+			calls += penaltyII10BFGSCentralDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = penaltyII10BFGSCentralDot(gt, d), true
 			switch {
 			case !penaltyII10BFGSCentralFinite(current.slope):
@@ -822,18 +964,22 @@ func penaltyII10BFGSCentralLineSearch(x *[10]float64, fx float64, d *[10]float64
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return penaltyII10BFGSCentralLineResult{step: t, value: current.value, calls: calls, gradient: true, end: penaltyII10BFGSCentralSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = penaltyII10BFGSCentralZoomTrial(&low, &high)
-		} else {
-			t = penaltyII10BFGSCentralExpandTrial(&previous, &current)
+		} else if t = penaltyII10BFGSCentralExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return penaltyII10BFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return penaltyII10BFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return penaltyII10BFGSCentralLineResult{calls: calls, rising: trend.contradicts(), end: penaltyII10BFGSCentralSearchExhausted}
 }
@@ -920,6 +1066,11 @@ func penaltyII10BFGSCentralFaithfulStep(x, xt, d *[10]float64, t float64) bool {
 	return true
 }
 
+// penaltyII10BFGSCentralStepCap: without bounds a step may be as long as the search wants.
+func penaltyII10BFGSCentralStepCap(x, d *[10]float64, tiny float64, b *penaltyII10BFGSCentralBox) float64 {
+	return math.Inf(1)
+}
+
 // penaltyII10BFGSCentralTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -944,10 +1095,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func penaltyII10BFGSCentralAcceptLow(x, d *[10]float64, low *penaltyII10BFGSCentralLinePoint, lowGradient *[10]float64, calls int, xt, gt *[10]float64) penaltyII10BFGSCentralLineResult {
-	penaltyII10BFGSCentralMoveTo(xt, x, low.step, d)
+func penaltyII10BFGSCentralAcceptLow(x, d *[10]float64, low *penaltyII10BFGSCentralLinePoint, lowGradient *[10]float64, calls int, xt, gt *[10]float64, diffs *penaltyII10BFGSCentralDifferences) penaltyII10BFGSCentralLineResult {
+	penaltyII10BFGSCentralTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return penaltyII10BFGSCentralLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: penaltyII10BFGSCentralSearchAccepted}
+}
+
+// penaltyII10BFGSCentralTrialPoint is x + t·d.
+func penaltyII10BFGSCentralTrialPoint(out, x *[10]float64, t float64, d *[10]float64, b *penaltyII10BFGSCentralBox) {
+	penaltyII10BFGSCentralMoveTo(out, x, t, d)
 }
 
 // penaltyII10BFGSCentralMoveTo sets out = x + t·d.

@@ -88,6 +88,9 @@ func PenaltyII10CGAnalyticDefaultLimits() PenaltyII10CGAnalyticLimits {
 	}
 }
 
+// penaltyII10CGAnalyticBox is empty: mgh.toml sets no bounds on PenaltyII10CGAnalytic.
+type penaltyII10CGAnalyticBox struct{}
+
 // PenaltyII10CGAnalytic minimizes PenaltyII10 from x0, as mgh.toml specifies.
 //
 // Direction cg: nonlinear conjugate gradients, Polak–Ribière clipped at zero (PR+), restarted every dim steps.
@@ -105,7 +108,7 @@ func PenaltyII10CGAnalytic(x0 [10]float64) PenaltyII10CGAnalyticResult {
 
 // PenaltyII10CGAnalyticWithLimits is PenaltyII10CGAnalytic with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func PenaltyII10CGAnalyticWithLimits(x0 [10]float64, limits PenaltyII10CGAnalyticLimits) PenaltyII10CGAnalyticResult {
-	out := penaltyII10CGAnalyticMinimize(x0, limits)
+	out := penaltyII10CGAnalyticMinimize(x0, limits, penaltyII10CGAnalyticBox{})
 	return PenaltyII10CGAnalyticResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func penaltyII10CGAnalyticMinimize(x0 [10]float64, lim PenaltyII10CGAnalyticLimits) penaltyII10CGAnalyticOutcome {
-	out := penaltyII10CGAnalyticOutcome{x: x0, status: PenaltyII10CGAnalyticOutOfEvaluations, gradient: math.NaN()}
+func penaltyII10CGAnalyticMinimize(x0 [10]float64, lim PenaltyII10CGAnalyticLimits, bounds penaltyII10CGAnalyticBox) penaltyII10CGAnalyticOutcome {
+	x := x0
+	penaltyII10CGAnalyticEnterBox(&x, &bounds)
+	out := penaltyII10CGAnalyticOutcome{x: x, status: PenaltyII10CGAnalyticOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := PenaltyII10(&x)
 	out.f, out.evaluations = fx, 1
 	if !penaltyII10CGAnalyticFinite(fx) || !penaltyII10CGAnalyticFiniteVec(&x) {
 		out.status = PenaltyII10CGAnalyticNonFiniteStart
 		return out
 	}
-	var diffs penaltyII10CGAnalyticDifferences
+	diffs := penaltyII10CGAnalyticDifferences{bounds: bounds}
 	calls, ok := penaltyII10CGAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+penaltyII10CGAnalyticDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [10]float64
-	penaltyII10CGAnalyticDerivative(&x, fx, &g, &diffs)
-	out.evaluations += penaltyII10CGAnalyticDerivativeCost
+	out.evaluations += penaltyII10CGAnalyticDerivative(&x, fx, &g, &diffs)
 
 	if !penaltyII10CGAnalyticFiniteVec(&g) {
 		out.status = PenaltyII10CGAnalyticNonFiniteGradient
@@ -211,7 +214,7 @@ func penaltyII10CGAnalyticMinimize(x0 [10]float64, lim PenaltyII10CGAnalyticLimi
 		case !confirmed:
 			penaltyII10CGAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := penaltyII10CGAnalyticGradientMeasure(&g, &e, &x, fx)
+		measure, floor := penaltyII10CGAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, penaltyII10CGAnalyticLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func penaltyII10CGAnalyticMinimize(x0 [10]float64, lim PenaltyII10CGAnalyticLimi
 			if rises >= 8 {
 				return best.ending(PenaltyII10CGAnalyticDiverged, out.iterations, out.evaluations)
 			}
+			penaltyII10CGAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(PenaltyII10CGAnalyticOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		penaltyII10CGAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := penaltyII10CGAnalyticDot(&g, &d)
 		if !(now < 0) || !penaltyII10CGAnalyticFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			penaltyII10CGAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = penaltyII10CGAnalyticDot(&g, &d)
 		}
 		first := float64(penaltyII10CGAnalyticStepInitial)
@@ -267,7 +271,7 @@ func penaltyII10CGAnalyticMinimize(x0 [10]float64, lim PenaltyII10CGAnalyticLimi
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := penaltyII10CGAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := penaltyII10CGAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := penaltyII10CGAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case penaltyII10CGAnalyticSearchOutOfBudget:
@@ -303,8 +307,7 @@ func penaltyII10CGAnalyticMinimize(x0 [10]float64, lim PenaltyII10CGAnalyticLimi
 				}
 				return best.ending(PenaltyII10CGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			penaltyII10CGAnalyticDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += penaltyII10CGAnalyticDerivativeCost
+			out.evaluations += penaltyII10CGAnalyticDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		penaltyII10CGAnalyticDifference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o penaltyII10CGAnalyticOutcome) ending(end PenaltyII10CGAnalyticStatus, it
 	return o
 }
 
+// penaltyII10CGAnalyticEnterBox: without bounds every start is inside.
+func penaltyII10CGAnalyticEnterBox(x *[10]float64, b *penaltyII10CGAnalyticBox) {}
+
 // penaltyII10CGAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func penaltyII10CGAnalyticFiniteVec(x *[10]float64) bool {
 	return true
 }
 
-// penaltyII10CGAnalyticDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// penaltyII10CGAnalyticDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type penaltyII10CGAnalyticDifferences struct {
 	ratio     [10]float64
 	curvature [10]float64
 	second    [10]float64 // |f″| along e_i, for the rounding floor of a stall (see penaltyII10CGAnalyticRoundingFloor)
+	bounds    penaltyII10CGAnalyticBox
 }
 
 // penaltyII10CGAnalyticCalibrate: an analytic gradient needs no intervals.
@@ -384,8 +392,9 @@ func penaltyII10CGAnalyticCalibrate(x *[10]float64, fx float64, diffs *penaltyII
 }
 
 // penaltyII10CGAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func penaltyII10CGAnalyticDerivative(x *[10]float64, fx float64, g *[10]float64, diffs *penaltyII10CGAnalyticDifferences) {
+func penaltyII10CGAnalyticDerivative(x *[10]float64, fx float64, g *[10]float64, diffs *penaltyII10CGAnalyticDifferences) int {
 	PenaltyII10Grad(x, g)
+	return 0
 }
 
 // penaltyII10CGAnalyticDirection is nonlinear conjugate gradients with the Polak–Ribière
@@ -517,13 +526,13 @@ func penaltyII10CGAnalyticConfirmGradient(x *[10]float64, fx float64, g, e *[10]
 		wide.ratio[i] *= 2
 	}
 	var doubled [10]float64
-	penaltyII10CGAnalyticDerivative(x, fx, g, diffs)
-	penaltyII10CGAnalyticDerivative(x, fx, &doubled, &wide)
+	calls += penaltyII10CGAnalyticDerivative(x, fx, g, diffs)
+	calls += penaltyII10CGAnalyticDerivative(x, fx, &doubled, &wide)
 	penaltyII10CGAnalyticGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * penaltyII10CGAnalyticAbs(g[i]-doubled[i])
 	}
-	return calls + 2*penaltyII10CGAnalyticDerivativeCost, true
+	return calls, true
 }
 
 // penaltyII10CGAnalyticGradientError: the analytic gradient is taken as exact; its error is
@@ -565,23 +574,70 @@ func penaltyII10CGAnalyticDiagonalCurvature(x, g *[10]float64, diffs *penaltyII1
 	var moved [10]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := penaltyII10CGAnalyticProbeStep(xi, penaltyII10CGAnalyticSquareRoot(penaltyII10CGAnalyticUnitRoundoff)*penaltyII10CGAnalyticLarger(1, penaltyII10CGAnalyticAbs(xi)))
-		probe[i] = up
-		PenaltyII10Grad(&probe, &moved)
-		h[i] = penaltyII10CGAnalyticAbs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := penaltyII10CGAnalyticCoordinateRange(i, diffs)
+		up, delta := penaltyII10CGAnalyticProbeStep(xi, penaltyII10CGAnalyticOneSide(xi, penaltyII10CGAnalyticSquareRoot(penaltyII10CGAnalyticUnitRoundoff)*penaltyII10CGAnalyticLarger(1, penaltyII10CGAnalyticAbs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			PenaltyII10Grad(&probe, &moved)
+			h[i] = penaltyII10CGAnalyticAbs(moved[i]-g[i]) / penaltyII10CGAnalyticAbs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// penaltyII10CGAnalyticProbeStep returns x_i moved by h, and the step actually representable.
-func penaltyII10CGAnalyticProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// penaltyII10CGAnalyticCoordinateRange: without bounds any probe is allowed.
+func penaltyII10CGAnalyticCoordinateRange(i int, diffs *penaltyII10CGAnalyticDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// penaltyII10CGAnalyticProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func penaltyII10CGAnalyticProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := penaltyII10CGAnalyticClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// penaltyII10CGAnalyticClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func penaltyII10CGAnalyticClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// penaltyII10CGAnalyticOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func penaltyII10CGAnalyticOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // penaltyII10CGAnalyticSquareRoot returns √v.
 func penaltyII10CGAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// penaltyII10CGAnalyticStationarity measures the gradient itself.
+func penaltyII10CGAnalyticStationarity(g, e, x *[10]float64, fx float64, b *penaltyII10CGAnalyticBox) (measure, floor float64) {
+	return penaltyII10CGAnalyticGradientMeasure(g, e, x, fx)
 }
 
 // penaltyII10CGAnalyticGradientMeasure is the scale-free measure
@@ -617,6 +673,14 @@ func penaltyII10CGAnalyticStepWithin(s, x *[10]float64, tol float64) bool {
 	return true
 }
 
+// penaltyII10CGAnalyticCurvaturePair: without bounds the pair is used as it is.
+func penaltyII10CGAnalyticCurvaturePair(s, y, x *[10]float64, b *penaltyII10CGAnalyticBox) {}
+
+// penaltyII10CGAnalyticSearchDirection is the direction's own.
+func penaltyII10CGAnalyticSearchDirection(dir *penaltyII10CGAnalyticDirection, x, g, d *[10]float64, b *penaltyII10CGAnalyticBox) {
+	dir.compute(g, d)
+}
+
 // penaltyII10CGAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func penaltyII10CGAnalyticTinyStep(x, d *[10]float64, tol float64) float64 {
@@ -644,7 +708,10 @@ func penaltyII10CGAnalyticTinyStep(x, d *[10]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (penaltyII10CGAnalyticStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -653,13 +720,17 @@ func penaltyII10CGAnalyticTinyStep(x, d *[10]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func penaltyII10CGAnalyticLineSearch(x *[10]float64, fx float64, d *[10]float64, slope, first, tiny float64, budget int, xt, gt *[10]float64, diffs *penaltyII10CGAnalyticDifferences) penaltyII10CGAnalyticLineResult {
+func penaltyII10CGAnalyticLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first, tiny float64, budget int, xt, gt *[10]float64, diffs *penaltyII10CGAnalyticDifferences) penaltyII10CGAnalyticLineResult {
 	low := penaltyII10CGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyII10CGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                    // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend penaltyII10CGAnalyticRiseTrend // of the trials failing sufficient decrease
+	var trend penaltyII10CGAnalyticRiseTrend                         // of the trials failing sufficient decrease
+	limit := penaltyII10CGAnalyticStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < penaltyII10CGAnalyticStepTrials; trial++ {
 		if bracketed && penaltyII10CGAnalyticAbs(high.step-low.step) <= tiny {
@@ -669,12 +740,12 @@ func penaltyII10CGAnalyticLineSearch(x *[10]float64, fx float64, d *[10]float64,
 			if low.step == 0 {
 				return penaltyII10CGAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: penaltyII10CGAnalyticTinyOrExhausted(penaltyII10CGAnalyticFinite(high.value))}
 			}
-			return penaltyII10CGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return penaltyII10CGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return penaltyII10CGAnalyticLineResult{calls: calls, end: penaltyII10CGAnalyticSearchOutOfBudget}
 		}
-		penaltyII10CGAnalyticMoveTo(xt, x, t, d)
+		penaltyII10CGAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := penaltyII10CGAnalyticLinePoint{step: t, value: PenaltyII10(xt)}
 		calls++
 		previous := low
@@ -685,8 +756,7 @@ func penaltyII10CGAnalyticLineSearch(x *[10]float64, fx float64, d *[10]float64,
 			if calls+penaltyII10CGAnalyticDerivativeCost > budget {
 				return penaltyII10CGAnalyticLineResult{calls: calls, end: penaltyII10CGAnalyticSearchOutOfBudget}
 			}
-			penaltyII10CGAnalyticDerivative(xt, current.value, gt, diffs)
-			calls += penaltyII10CGAnalyticDerivativeCost
+			calls += penaltyII10CGAnalyticDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = penaltyII10CGAnalyticDot(gt, d), true
 			switch {
 			case !penaltyII10CGAnalyticFinite(current.slope):
@@ -697,18 +767,22 @@ func penaltyII10CGAnalyticLineSearch(x *[10]float64, fx float64, d *[10]float64,
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return penaltyII10CGAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: penaltyII10CGAnalyticSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = penaltyII10CGAnalyticZoomTrial(&low, &high)
-		} else {
-			t = penaltyII10CGAnalyticExpandTrial(&previous, &current)
+		} else if t = penaltyII10CGAnalyticExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return penaltyII10CGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return penaltyII10CGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return penaltyII10CGAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: penaltyII10CGAnalyticSearchExhausted}
 }
@@ -795,6 +869,11 @@ func penaltyII10CGAnalyticFaithfulStep(x, xt, d *[10]float64, t float64) bool {
 	return true
 }
 
+// penaltyII10CGAnalyticStepCap: without bounds a step may be as long as the search wants.
+func penaltyII10CGAnalyticStepCap(x, d *[10]float64, tiny float64, b *penaltyII10CGAnalyticBox) float64 {
+	return math.Inf(1)
+}
+
 // penaltyII10CGAnalyticTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -819,10 +898,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func penaltyII10CGAnalyticAcceptLow(x, d *[10]float64, low *penaltyII10CGAnalyticLinePoint, lowGradient *[10]float64, calls int, xt, gt *[10]float64) penaltyII10CGAnalyticLineResult {
-	penaltyII10CGAnalyticMoveTo(xt, x, low.step, d)
+func penaltyII10CGAnalyticAcceptLow(x, d *[10]float64, low *penaltyII10CGAnalyticLinePoint, lowGradient *[10]float64, calls int, xt, gt *[10]float64, diffs *penaltyII10CGAnalyticDifferences) penaltyII10CGAnalyticLineResult {
+	penaltyII10CGAnalyticTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return penaltyII10CGAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: penaltyII10CGAnalyticSearchAccepted}
+}
+
+// penaltyII10CGAnalyticTrialPoint is x + t·d.
+func penaltyII10CGAnalyticTrialPoint(out, x *[10]float64, t float64, d *[10]float64, b *penaltyII10CGAnalyticBox) {
+	penaltyII10CGAnalyticMoveTo(out, x, t, d)
 }
 
 // penaltyII10CGAnalyticMoveTo sets out = x + t·d.
@@ -877,21 +961,6 @@ func penaltyII10CGAnalyticModelMinimizer(a, b *penaltyII10CGAnalyticLinePoint) (
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, penaltyII10CGAnalyticFinite(t)
-}
-
-// penaltyII10CGAnalyticClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func penaltyII10CGAnalyticClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // penaltyII10CGAnalyticExpandTrial picks a larger trial after current met sufficient decrease

@@ -88,6 +88,9 @@ func PenaltyII10LBFGSAnalyticDefaultLimits() PenaltyII10LBFGSAnalyticLimits {
 	}
 }
 
+// penaltyII10LBFGSAnalyticBox is empty: mgh.toml sets no bounds on PenaltyII10LBFGSAnalytic.
+type penaltyII10LBFGSAnalyticBox struct{}
+
 // PenaltyII10LBFGSAnalytic minimizes PenaltyII10 from x0, as mgh.toml specifies.
 //
 // Direction lbfgs: limited-memory BFGS: the last `memory` pairs, two-loop recursion (2·memory·dim numbers).
@@ -105,7 +108,7 @@ func PenaltyII10LBFGSAnalytic(x0 [10]float64) PenaltyII10LBFGSAnalyticResult {
 
 // PenaltyII10LBFGSAnalyticWithLimits is PenaltyII10LBFGSAnalytic with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func PenaltyII10LBFGSAnalyticWithLimits(x0 [10]float64, limits PenaltyII10LBFGSAnalyticLimits) PenaltyII10LBFGSAnalyticResult {
-	out := penaltyII10LBFGSAnalyticMinimize(x0, limits)
+	out := penaltyII10LBFGSAnalyticMinimize(x0, limits, penaltyII10LBFGSAnalyticBox{})
 	return PenaltyII10LBFGSAnalyticResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -159,27 +162,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func penaltyII10LBFGSAnalyticMinimize(x0 [10]float64, lim PenaltyII10LBFGSAnalyticLimits) penaltyII10LBFGSAnalyticOutcome {
-	out := penaltyII10LBFGSAnalyticOutcome{x: x0, status: PenaltyII10LBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
+func penaltyII10LBFGSAnalyticMinimize(x0 [10]float64, lim PenaltyII10LBFGSAnalyticLimits, bounds penaltyII10LBFGSAnalyticBox) penaltyII10LBFGSAnalyticOutcome {
+	x := x0
+	penaltyII10LBFGSAnalyticEnterBox(&x, &bounds)
+	out := penaltyII10LBFGSAnalyticOutcome{x: x, status: PenaltyII10LBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := PenaltyII10(&x)
 	out.f, out.evaluations = fx, 1
 	if !penaltyII10LBFGSAnalyticFinite(fx) || !penaltyII10LBFGSAnalyticFiniteVec(&x) {
 		out.status = PenaltyII10LBFGSAnalyticNonFiniteStart
 		return out
 	}
-	var diffs penaltyII10LBFGSAnalyticDifferences
+	diffs := penaltyII10LBFGSAnalyticDifferences{bounds: bounds}
 	calls, ok := penaltyII10LBFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+penaltyII10LBFGSAnalyticDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [10]float64
-	penaltyII10LBFGSAnalyticDerivative(&x, fx, &g, &diffs)
-	out.evaluations += penaltyII10LBFGSAnalyticDerivativeCost
+	out.evaluations += penaltyII10LBFGSAnalyticDerivative(&x, fx, &g, &diffs)
 
 	if !penaltyII10LBFGSAnalyticFiniteVec(&g) {
 		out.status = PenaltyII10LBFGSAnalyticNonFiniteGradient
@@ -212,7 +215,7 @@ func penaltyII10LBFGSAnalyticMinimize(x0 [10]float64, lim PenaltyII10LBFGSAnalyt
 		case !confirmed:
 			penaltyII10LBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := penaltyII10LBFGSAnalyticGradientMeasure(&g, &e, &x, fx)
+		measure, floor := penaltyII10LBFGSAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, penaltyII10LBFGSAnalyticLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -251,16 +254,17 @@ func penaltyII10LBFGSAnalyticMinimize(x0 [10]float64, lim PenaltyII10LBFGSAnalyt
 			if rises >= 8 {
 				return best.ending(PenaltyII10LBFGSAnalyticDiverged, out.iterations, out.evaluations)
 			}
+			penaltyII10LBFGSAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(PenaltyII10LBFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		penaltyII10LBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := penaltyII10LBFGSAnalyticDot(&g, &d)
 		if !(now < 0) || !penaltyII10LBFGSAnalyticFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			penaltyII10LBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = penaltyII10LBFGSAnalyticDot(&g, &d)
 		}
 		first := float64(penaltyII10LBFGSAnalyticStepInitial)
@@ -268,7 +272,7 @@ func penaltyII10LBFGSAnalyticMinimize(x0 [10]float64, lim PenaltyII10LBFGSAnalyt
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := penaltyII10LBFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := penaltyII10LBFGSAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := penaltyII10LBFGSAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case penaltyII10LBFGSAnalyticSearchOutOfBudget:
@@ -304,8 +308,7 @@ func penaltyII10LBFGSAnalyticMinimize(x0 [10]float64, lim PenaltyII10LBFGSAnalyt
 				}
 				return best.ending(PenaltyII10LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			penaltyII10LBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += penaltyII10LBFGSAnalyticDerivativeCost
+			out.evaluations += penaltyII10LBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		penaltyII10LBFGSAnalyticDifference(&s, &xt, &x)
@@ -346,6 +349,9 @@ func (o penaltyII10LBFGSAnalyticOutcome) ending(end PenaltyII10LBFGSAnalyticStat
 	return o
 }
 
+// penaltyII10LBFGSAnalyticEnterBox: without bounds every start is inside.
+func penaltyII10LBFGSAnalyticEnterBox(x *[10]float64, b *penaltyII10LBFGSAnalyticBox) {}
+
 // penaltyII10LBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -368,15 +374,17 @@ func penaltyII10LBFGSAnalyticFiniteVec(x *[10]float64) bool {
 	return true
 }
 
-// penaltyII10LBFGSAnalyticDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// penaltyII10LBFGSAnalyticDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type penaltyII10LBFGSAnalyticDifferences struct {
 	ratio     [10]float64
 	curvature [10]float64
 	second    [10]float64 // |f″| along e_i, for the rounding floor of a stall (see penaltyII10LBFGSAnalyticRoundingFloor)
+	bounds    penaltyII10LBFGSAnalyticBox
 }
 
 // penaltyII10LBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
@@ -385,8 +393,9 @@ func penaltyII10LBFGSAnalyticCalibrate(x *[10]float64, fx float64, diffs *penalt
 }
 
 // penaltyII10LBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func penaltyII10LBFGSAnalyticDerivative(x *[10]float64, fx float64, g *[10]float64, diffs *penaltyII10LBFGSAnalyticDifferences) {
+func penaltyII10LBFGSAnalyticDerivative(x *[10]float64, fx float64, g *[10]float64, diffs *penaltyII10LBFGSAnalyticDifferences) int {
 	PenaltyII10Grad(x, g)
+	return 0
 }
 
 // penaltyII10LBFGSAnalyticDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
@@ -551,13 +560,13 @@ func penaltyII10LBFGSAnalyticConfirmGradient(x *[10]float64, fx float64, g, e *[
 		wide.ratio[i] *= 2
 	}
 	var doubled [10]float64
-	penaltyII10LBFGSAnalyticDerivative(x, fx, g, diffs)
-	penaltyII10LBFGSAnalyticDerivative(x, fx, &doubled, &wide)
+	calls += penaltyII10LBFGSAnalyticDerivative(x, fx, g, diffs)
+	calls += penaltyII10LBFGSAnalyticDerivative(x, fx, &doubled, &wide)
 	penaltyII10LBFGSAnalyticGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * penaltyII10LBFGSAnalyticAbs(g[i]-doubled[i])
 	}
-	return calls + 2*penaltyII10LBFGSAnalyticDerivativeCost, true
+	return calls, true
 }
 
 // penaltyII10LBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
@@ -599,18 +608,60 @@ func penaltyII10LBFGSAnalyticDiagonalCurvature(x, g *[10]float64, diffs *penalty
 	var moved [10]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := penaltyII10LBFGSAnalyticProbeStep(xi, penaltyII10LBFGSAnalyticSquareRoot(penaltyII10LBFGSAnalyticUnitRoundoff)*penaltyII10LBFGSAnalyticLarger(1, penaltyII10LBFGSAnalyticAbs(xi)))
-		probe[i] = up
-		PenaltyII10Grad(&probe, &moved)
-		h[i] = penaltyII10LBFGSAnalyticAbs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := penaltyII10LBFGSAnalyticCoordinateRange(i, diffs)
+		up, delta := penaltyII10LBFGSAnalyticProbeStep(xi, penaltyII10LBFGSAnalyticOneSide(xi, penaltyII10LBFGSAnalyticSquareRoot(penaltyII10LBFGSAnalyticUnitRoundoff)*penaltyII10LBFGSAnalyticLarger(1, penaltyII10LBFGSAnalyticAbs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			PenaltyII10Grad(&probe, &moved)
+			h[i] = penaltyII10LBFGSAnalyticAbs(moved[i]-g[i]) / penaltyII10LBFGSAnalyticAbs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// penaltyII10LBFGSAnalyticProbeStep returns x_i moved by h, and the step actually representable.
-func penaltyII10LBFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// penaltyII10LBFGSAnalyticCoordinateRange: without bounds any probe is allowed.
+func penaltyII10LBFGSAnalyticCoordinateRange(i int, diffs *penaltyII10LBFGSAnalyticDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// penaltyII10LBFGSAnalyticProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func penaltyII10LBFGSAnalyticProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := penaltyII10LBFGSAnalyticClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// penaltyII10LBFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func penaltyII10LBFGSAnalyticClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// penaltyII10LBFGSAnalyticOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func penaltyII10LBFGSAnalyticOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // penaltyII10LBFGSAnalyticSquareRoot returns √v.
@@ -626,6 +677,11 @@ func penaltyII10LBFGSAnalyticLarger(a, b float64) float64 {
 		return a
 	}
 	return b
+}
+
+// penaltyII10LBFGSAnalyticStationarity measures the gradient itself.
+func penaltyII10LBFGSAnalyticStationarity(g, e, x *[10]float64, fx float64, b *penaltyII10LBFGSAnalyticBox) (measure, floor float64) {
+	return penaltyII10LBFGSAnalyticGradientMeasure(g, e, x, fx)
 }
 
 // penaltyII10LBFGSAnalyticGradientMeasure is the scale-free measure
@@ -661,6 +717,14 @@ func penaltyII10LBFGSAnalyticStepWithin(s, x *[10]float64, tol float64) bool {
 	return true
 }
 
+// penaltyII10LBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
+func penaltyII10LBFGSAnalyticCurvaturePair(s, y, x *[10]float64, b *penaltyII10LBFGSAnalyticBox) {}
+
+// penaltyII10LBFGSAnalyticSearchDirection is the direction's own.
+func penaltyII10LBFGSAnalyticSearchDirection(dir *penaltyII10LBFGSAnalyticDirection, x, g, d *[10]float64, b *penaltyII10LBFGSAnalyticBox) {
+	dir.compute(g, d)
+}
+
 // penaltyII10LBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func penaltyII10LBFGSAnalyticTinyStep(x, d *[10]float64, tol float64) float64 {
@@ -688,7 +752,10 @@ func penaltyII10LBFGSAnalyticTinyStep(x, d *[10]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (penaltyII10LBFGSAnalyticStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -697,13 +764,17 @@ func penaltyII10LBFGSAnalyticTinyStep(x, d *[10]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func penaltyII10LBFGSAnalyticLineSearch(x *[10]float64, fx float64, d *[10]float64, slope, first, tiny float64, budget int, xt, gt *[10]float64, diffs *penaltyII10LBFGSAnalyticDifferences) penaltyII10LBFGSAnalyticLineResult {
+func penaltyII10LBFGSAnalyticLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first, tiny float64, budget int, xt, gt *[10]float64, diffs *penaltyII10LBFGSAnalyticDifferences) penaltyII10LBFGSAnalyticLineResult {
 	low := penaltyII10LBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyII10LBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                       // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend penaltyII10LBFGSAnalyticRiseTrend // of the trials failing sufficient decrease
+	var trend penaltyII10LBFGSAnalyticRiseTrend                         // of the trials failing sufficient decrease
+	limit := penaltyII10LBFGSAnalyticStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < penaltyII10LBFGSAnalyticStepTrials; trial++ {
 		if bracketed && penaltyII10LBFGSAnalyticAbs(high.step-low.step) <= tiny {
@@ -713,12 +784,12 @@ func penaltyII10LBFGSAnalyticLineSearch(x *[10]float64, fx float64, d *[10]float
 			if low.step == 0 {
 				return penaltyII10LBFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: penaltyII10LBFGSAnalyticTinyOrExhausted(penaltyII10LBFGSAnalyticFinite(high.value))}
 			}
-			return penaltyII10LBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return penaltyII10LBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return penaltyII10LBFGSAnalyticLineResult{calls: calls, end: penaltyII10LBFGSAnalyticSearchOutOfBudget}
 		}
-		penaltyII10LBFGSAnalyticMoveTo(xt, x, t, d)
+		penaltyII10LBFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := penaltyII10LBFGSAnalyticLinePoint{step: t, value: PenaltyII10(xt)}
 		calls++
 		previous := low
@@ -729,8 +800,7 @@ func penaltyII10LBFGSAnalyticLineSearch(x *[10]float64, fx float64, d *[10]float
 			if calls+penaltyII10LBFGSAnalyticDerivativeCost > budget {
 				return penaltyII10LBFGSAnalyticLineResult{calls: calls, end: penaltyII10LBFGSAnalyticSearchOutOfBudget}
 			}
-			penaltyII10LBFGSAnalyticDerivative(xt, current.value, gt, diffs)
-			calls += penaltyII10LBFGSAnalyticDerivativeCost
+			calls += penaltyII10LBFGSAnalyticDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = penaltyII10LBFGSAnalyticDot(gt, d), true
 			switch {
 			case !penaltyII10LBFGSAnalyticFinite(current.slope):
@@ -741,18 +811,22 @@ func penaltyII10LBFGSAnalyticLineSearch(x *[10]float64, fx float64, d *[10]float
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return penaltyII10LBFGSAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: penaltyII10LBFGSAnalyticSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = penaltyII10LBFGSAnalyticZoomTrial(&low, &high)
-		} else {
-			t = penaltyII10LBFGSAnalyticExpandTrial(&previous, &current)
+		} else if t = penaltyII10LBFGSAnalyticExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return penaltyII10LBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return penaltyII10LBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return penaltyII10LBFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: penaltyII10LBFGSAnalyticSearchExhausted}
 }
@@ -839,6 +913,11 @@ func penaltyII10LBFGSAnalyticFaithfulStep(x, xt, d *[10]float64, t float64) bool
 	return true
 }
 
+// penaltyII10LBFGSAnalyticStepCap: without bounds a step may be as long as the search wants.
+func penaltyII10LBFGSAnalyticStepCap(x, d *[10]float64, tiny float64, b *penaltyII10LBFGSAnalyticBox) float64 {
+	return math.Inf(1)
+}
+
 // penaltyII10LBFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -863,10 +942,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func penaltyII10LBFGSAnalyticAcceptLow(x, d *[10]float64, low *penaltyII10LBFGSAnalyticLinePoint, lowGradient *[10]float64, calls int, xt, gt *[10]float64) penaltyII10LBFGSAnalyticLineResult {
-	penaltyII10LBFGSAnalyticMoveTo(xt, x, low.step, d)
+func penaltyII10LBFGSAnalyticAcceptLow(x, d *[10]float64, low *penaltyII10LBFGSAnalyticLinePoint, lowGradient *[10]float64, calls int, xt, gt *[10]float64, diffs *penaltyII10LBFGSAnalyticDifferences) penaltyII10LBFGSAnalyticLineResult {
+	penaltyII10LBFGSAnalyticTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return penaltyII10LBFGSAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: penaltyII10LBFGSAnalyticSearchAccepted}
+}
+
+// penaltyII10LBFGSAnalyticTrialPoint is x + t·d.
+func penaltyII10LBFGSAnalyticTrialPoint(out, x *[10]float64, t float64, d *[10]float64, b *penaltyII10LBFGSAnalyticBox) {
+	penaltyII10LBFGSAnalyticMoveTo(out, x, t, d)
 }
 
 // penaltyII10LBFGSAnalyticMoveTo sets out = x + t·d.
@@ -921,21 +1005,6 @@ func penaltyII10LBFGSAnalyticModelMinimizer(a, b *penaltyII10LBFGSAnalyticLinePo
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, penaltyII10LBFGSAnalyticFinite(t)
-}
-
-// penaltyII10LBFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func penaltyII10LBFGSAnalyticClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // penaltyII10LBFGSAnalyticExpandTrial picks a larger trial after current met sufficient decrease

@@ -88,6 +88,9 @@ func PenaltyII10LBFGSCentralDefaultLimits() PenaltyII10LBFGSCentralLimits {
 	}
 }
 
+// penaltyII10LBFGSCentralBox is empty: mgh.toml sets no bounds on PenaltyII10LBFGSCentral.
+type penaltyII10LBFGSCentralBox struct{}
+
 // PenaltyII10LBFGSCentral minimizes PenaltyII10 from x0, as mgh.toml specifies.
 //
 // Direction lbfgs: limited-memory BFGS: the last `memory` pairs, two-loop recursion (2·memory·dim numbers).
@@ -105,7 +108,7 @@ func PenaltyII10LBFGSCentral(x0 [10]float64) PenaltyII10LBFGSCentralResult {
 
 // PenaltyII10LBFGSCentralWithLimits is PenaltyII10LBFGSCentral with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func PenaltyII10LBFGSCentralWithLimits(x0 [10]float64, limits PenaltyII10LBFGSCentralLimits) PenaltyII10LBFGSCentralResult {
-	out := penaltyII10LBFGSCentralMinimize(x0, limits)
+	out := penaltyII10LBFGSCentralMinimize(x0, limits, penaltyII10LBFGSCentralBox{})
 	return PenaltyII10LBFGSCentralResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -159,27 +162,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func penaltyII10LBFGSCentralMinimize(x0 [10]float64, lim PenaltyII10LBFGSCentralLimits) penaltyII10LBFGSCentralOutcome {
-	out := penaltyII10LBFGSCentralOutcome{x: x0, status: PenaltyII10LBFGSCentralOutOfEvaluations, gradient: math.NaN()}
+func penaltyII10LBFGSCentralMinimize(x0 [10]float64, lim PenaltyII10LBFGSCentralLimits, bounds penaltyII10LBFGSCentralBox) penaltyII10LBFGSCentralOutcome {
+	x := x0
+	penaltyII10LBFGSCentralEnterBox(&x, &bounds)
+	out := penaltyII10LBFGSCentralOutcome{x: x, status: PenaltyII10LBFGSCentralOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := PenaltyII10(&x)
 	out.f, out.evaluations = fx, 1
 	if !penaltyII10LBFGSCentralFinite(fx) || !penaltyII10LBFGSCentralFiniteVec(&x) {
 		out.status = PenaltyII10LBFGSCentralNonFiniteStart
 		return out
 	}
-	var diffs penaltyII10LBFGSCentralDifferences
+	diffs := penaltyII10LBFGSCentralDifferences{bounds: bounds}
 	calls, ok := penaltyII10LBFGSCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+penaltyII10LBFGSCentralDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [10]float64
-	penaltyII10LBFGSCentralDerivative(&x, fx, &g, &diffs)
-	out.evaluations += penaltyII10LBFGSCentralDerivativeCost
+	out.evaluations += penaltyII10LBFGSCentralDerivative(&x, fx, &g, &diffs)
 
 	if !penaltyII10LBFGSCentralFiniteVec(&g) {
 		out.status = PenaltyII10LBFGSCentralNonFiniteGradient
@@ -212,7 +215,7 @@ func penaltyII10LBFGSCentralMinimize(x0 [10]float64, lim PenaltyII10LBFGSCentral
 		case !confirmed:
 			penaltyII10LBFGSCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := penaltyII10LBFGSCentralGradientMeasure(&g, &e, &x, fx)
+		measure, floor := penaltyII10LBFGSCentralStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, penaltyII10LBFGSCentralLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -251,16 +254,17 @@ func penaltyII10LBFGSCentralMinimize(x0 [10]float64, lim PenaltyII10LBFGSCentral
 			if rises >= 8 {
 				return best.ending(PenaltyII10LBFGSCentralDiverged, out.iterations, out.evaluations)
 			}
+			penaltyII10LBFGSCentralCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(PenaltyII10LBFGSCentralOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		penaltyII10LBFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := penaltyII10LBFGSCentralDot(&g, &d)
 		if !(now < 0) || !penaltyII10LBFGSCentralFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			penaltyII10LBFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = penaltyII10LBFGSCentralDot(&g, &d)
 		}
 		first := float64(penaltyII10LBFGSCentralStepInitial)
@@ -268,7 +272,7 @@ func penaltyII10LBFGSCentralMinimize(x0 [10]float64, lim PenaltyII10LBFGSCentral
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := penaltyII10LBFGSCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := penaltyII10LBFGSCentralLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := penaltyII10LBFGSCentralLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case penaltyII10LBFGSCentralSearchOutOfBudget:
@@ -304,8 +308,7 @@ func penaltyII10LBFGSCentralMinimize(x0 [10]float64, lim PenaltyII10LBFGSCentral
 				}
 				return best.ending(PenaltyII10LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			penaltyII10LBFGSCentralDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += penaltyII10LBFGSCentralDerivativeCost
+			out.evaluations += penaltyII10LBFGSCentralDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		penaltyII10LBFGSCentralDifference(&s, &xt, &x)
@@ -346,6 +349,9 @@ func (o penaltyII10LBFGSCentralOutcome) ending(end PenaltyII10LBFGSCentralStatus
 	return o
 }
 
+// penaltyII10LBFGSCentralEnterBox: without bounds every start is inside.
+func penaltyII10LBFGSCentralEnterBox(x *[10]float64, b *penaltyII10LBFGSCentralBox) {}
+
 // penaltyII10LBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -368,15 +374,17 @@ func penaltyII10LBFGSCentralFiniteVec(x *[10]float64) bool {
 	return true
 }
 
-// penaltyII10LBFGSCentralDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// penaltyII10LBFGSCentralDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type penaltyII10LBFGSCentralDifferences struct {
 	ratio     [10]float64
 	curvature [10]float64
 	second    [10]float64 // |f″| along e_i, for the rounding floor of a stall (see penaltyII10LBFGSCentralRoundingFloor)
+	bounds    penaltyII10LBFGSCentralBox
 }
 
 // penaltyII10LBFGSCentralCalibrate chooses each central-difference interval from the
@@ -398,19 +406,45 @@ func penaltyII10LBFGSCentralCalibrate(x *[10]float64, fx float64, diffs *penalty
 	var slope [10]float64
 	scale := penaltyII10LBFGSCentralAbs(fx)
 	quarter := penaltyII10LBFGSCentralSquareRoot(penaltyII10LBFGSCentralSquareRoot(penaltyII10LBFGSCentralUnitRoundoff)) // u^(1/4)
+	calls := 0
 	for i := range probe {
-		if 4*(i+1) > budget {
-			return 4 * i, false
+		if calls+4 > budget {
+			return calls, false
 		}
 		xi := probe[i]
 		bar := quarter * penaltyII10LBFGSCentralLarger(1, penaltyII10LBFGSCentralAbs(xi))
+		lower, upper := penaltyII10LBFGSCentralCoordinateRange(i, diffs)
+		if xi+2*bar > upper || xi-2*bar < lower {
+			// At a bound: three probes on the side with room, at h, 2h
+			// and 3h, for f‴ ≈ (f(3h) − 3f(2h) + 3f(h) − f(0))/h³ (the
+			// third forward difference).
+			h := penaltyII10LBFGSCentralOneSide(xi, bar, 3, lower, upper)
+			if h == 0 {
+				continue // fixed by equal bounds
+			}
+			var f [3]float64
+			for k := range f {
+				probe[i], _ = penaltyII10LBFGSCentralProbeStep(xi, float64(k+1)*h, lower, upper)
+				f[k] = PenaltyII10(&probe)
+				scale = penaltyII10LBFGSCentralLarger(scale, penaltyII10LBFGSCentralMagnitude(f[k]))
+			}
+			probe[i] = xi
+			calls += 3
+			if penaltyII10LBFGSCentralFinite(f[0]) && penaltyII10LBFGSCentralFinite(f[1]) && penaltyII10LBFGSCentralFinite(f[2]) {
+				diffs.curvature[i] = penaltyII10LBFGSCentralAbs(f[2]-3*f[1]+3*f[0]-fx) / penaltyII10LBFGSCentralAbs(h*h*h)
+				diffs.second[i] = penaltyII10LBFGSCentralAbs(fx-2*f[0]+f[1]) / (h * h)
+				slope[i] = (-3*fx + 4*f[0] - f[1]) / (2 * h)
+			}
+			continue
+		}
 		var f [4]float64
 		for k, m := range [4]float64{2, 1, -1, -2} {
-			probe[i], _ = penaltyII10LBFGSCentralProbeStep(xi, m*bar)
+			probe[i], _ = penaltyII10LBFGSCentralProbeStep(xi, m*bar, lower, upper)
 			f[k] = PenaltyII10(&probe)
 			scale = penaltyII10LBFGSCentralLarger(scale, penaltyII10LBFGSCentralMagnitude(f[k]))
 		}
 		probe[i] = xi
+		calls += 4
 		if penaltyII10LBFGSCentralFinite(f[0]) && penaltyII10LBFGSCentralFinite(f[1]) && penaltyII10LBFGSCentralFinite(f[2]) && penaltyII10LBFGSCentralFinite(f[3]) {
 			diffs.curvature[i] = penaltyII10LBFGSCentralAbs(f[0]-2*f[1]+2*f[2]-f[3]) / (2 * bar * bar * bar)
 			diffs.second[i] = penaltyII10LBFGSCentralAbs(f[1]-2*fx+f[2]) / (bar * bar)
@@ -429,7 +463,7 @@ func penaltyII10LBFGSCentralCalibrate(x *[10]float64, fx float64, diffs *penalty
 		diffs.ratio[i] = penaltyII10LBFGSCentralClampBetween(h, 64*penaltyII10LBFGSCentralUnitRoundoff*s, bar) / s
 		diffs.curvature[i] = third
 	}
-	return 4 * len(probe), true
+	return calls, true
 }
 
 // penaltyII10LBFGSCentralAbs returns |v|.
@@ -455,10 +489,48 @@ func penaltyII10LBFGSCentralLarger(a, b float64) float64 {
 	return b
 }
 
-// penaltyII10LBFGSCentralProbeStep returns x_i moved by h, and the step actually representable.
-func penaltyII10LBFGSCentralProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// penaltyII10LBFGSCentralCoordinateRange: without bounds any probe is allowed.
+func penaltyII10LBFGSCentralCoordinateRange(i int, diffs *penaltyII10LBFGSCentralDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// penaltyII10LBFGSCentralOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func penaltyII10LBFGSCentralOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
+}
+
+// penaltyII10LBFGSCentralProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func penaltyII10LBFGSCentralProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := penaltyII10LBFGSCentralClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// penaltyII10LBFGSCentralClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func penaltyII10LBFGSCentralClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
 }
 
 // penaltyII10LBFGSCentralMagnitude is |v| for a finite v and 0 otherwise: a probe that fell
@@ -494,42 +566,85 @@ func penaltyII10LBFGSCentralCubeRoot(v float64) float64 {
 	return math.Cbrt(v)
 }
 
-// penaltyII10LBFGSCentralClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func penaltyII10LBFGSCentralClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
-}
-
 // penaltyII10LBFGSCentralDerivative approximates the gradient by central differences,
 //
 //	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),
 //
 // with the intervals penaltyII10LBFGSCentralCalibrate chose, h_i = ratio_i·max(1, |x_i|)
-// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls; fx is
-// not needed.
-func penaltyII10LBFGSCentralDerivative(x *[10]float64, fx float64, g *[10]float64, diffs *penaltyII10LBFGSCentralDifferences) {
+// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls. Where
+// a bound leaves no room on one side, the three-point endpoint formula on
+// the other side takes its place at the same cost (see parabola); a
+// variable fixed by equal bounds costs nothing and gets 0.
+func penaltyII10LBFGSCentralDerivative(x *[10]float64, fx float64, g *[10]float64, diffs *penaltyII10LBFGSCentralDifferences) int {
 	probe := *x
+	calls := 0
 	for i := range probe {
 		xi := probe[i]
-		h := diffs.ratio[i] * penaltyII10LBFGSCentralLarger(1, penaltyII10LBFGSCentralAbs(xi))
-		up, _ := penaltyII10LBFGSCentralProbeStep(xi, h)
-		down, _ := penaltyII10LBFGSCentralProbeStep(xi, -h)
-		probe[i] = up
-		fUp := PenaltyII10(&probe)
-		probe[i] = down
-		fDown := PenaltyII10(&probe)
-		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
-		probe[i] = xi
+		h, oneSided := penaltyII10LBFGSCentralCentralInterval(x, i, diffs)
+		lower, upper := penaltyII10LBFGSCentralCoordinateRange(i, diffs)
+		switch {
+		case h == 0:
+			g[i] = 0 // fixed by equal bounds
+			continue
+		case oneSided:
+			g[i], _, _ = penaltyII10LBFGSCentralSidedProbes(&probe, i, fx, h, lower, upper) // the three-point endpoint formula
+		default:
+			up, _ := penaltyII10LBFGSCentralProbeStep(xi, h, lower, upper)
+			down, _ := penaltyII10LBFGSCentralProbeStep(xi, -h, lower, upper)
+			probe[i] = up
+			fUp := PenaltyII10(&probe)
+			probe[i] = down
+			fDown := PenaltyII10(&probe)
+			g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+			probe[i] = xi
+		}
+		calls += 2
 	}
+	return calls
+}
+
+// penaltyII10LBFGSCentralCentralInterval is the interval of coordinate i at x, ratio_i·max(1,
+// |x_i|), and whether the box leaves room for probes on both sides; when
+// it does not, the interval is signed towards the side with room for
+// probes at h and 2h, and shortened where the box is narrower than that
+// (see penaltyII10LBFGSCentralOneSide).
+func penaltyII10LBFGSCentralCentralInterval(x *[10]float64, i int, diffs *penaltyII10LBFGSCentralDifferences) (h float64, oneSided bool) {
+	lower, upper := penaltyII10LBFGSCentralCoordinateRange(i, diffs)
+	h = diffs.ratio[i] * penaltyII10LBFGSCentralLarger(1, penaltyII10LBFGSCentralAbs(x[i]))
+	if x[i]+h <= upper && x[i]-h >= lower {
+		return h, false
+	}
+	return penaltyII10LBFGSCentralOneSide(x[i], h, 2, lower, upper), true
+}
+
+// penaltyII10LBFGSCentralSidedProbes evaluates f at x moved along coordinate i by h and by 2h,
+// kept within [lower, upper], and returns the slope and second derivative
+// of the parabola through them and (x, fx) (see parabola), and the larger
+// magnitude of the two values.
+func penaltyII10LBFGSCentralSidedProbes(probe *[10]float64, i int, fx, h, lower, upper float64) (slope, second, size float64) {
+	xi := probe[i]
+	near, a := penaltyII10LBFGSCentralProbeStep(xi, h, lower, upper)
+	far, b := penaltyII10LBFGSCentralProbeStep(xi, 2*h, lower, upper)
+	probe[i] = near
+	fNear := PenaltyII10(probe)
+	probe[i] = far
+	fFar := PenaltyII10(probe)
+	probe[i] = xi
+	slope, second = penaltyII10LBFGSCentralParabola(fx, a, fNear, b, fFar)
+	return slope, second, penaltyII10LBFGSCentralLarger(penaltyII10LBFGSCentralMagnitude(fNear), penaltyII10LBFGSCentralMagnitude(fFar))
+}
+
+// penaltyII10LBFGSCentralParabola returns the first and second derivatives at 0 of the parabola
+// through (0, f0), (a, fa) and (b, fb), for probes on one side of a bound.
+// With b = 2a they are the three-point endpoint formulas
+// f′ ≈ (−3f0 + 4fa − fb)/(2a), error a²|f‴|/3, and
+// f″ ≈ (f0 − 2fa + fb)/a² (Burden & Faires, Numerical Analysis, §4.1
+// and §4.1's second-derivative formulas, from memory); written for unequal
+// a and b, so that the representable steps can be used.
+func penaltyII10LBFGSCentralParabola(f0, a, fa, b, fb float64) (slope, second float64) {
+	slope = -(a+b)/(a*b)*f0 + b/(a*(b-a))*fa - a/(b*(b-a))*fb
+	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
+	return slope, second
 }
 
 // penaltyII10LBFGSCentralDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
@@ -694,13 +809,13 @@ func penaltyII10LBFGSCentralConfirmGradient(x *[10]float64, fx float64, g, e *[1
 		wide.ratio[i] *= 2
 	}
 	var doubled [10]float64
-	penaltyII10LBFGSCentralDerivative(x, fx, g, diffs)
-	penaltyII10LBFGSCentralDerivative(x, fx, &doubled, &wide)
+	calls += penaltyII10LBFGSCentralDerivative(x, fx, g, diffs)
+	calls += penaltyII10LBFGSCentralDerivative(x, fx, &doubled, &wide)
 	penaltyII10LBFGSCentralGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * penaltyII10LBFGSCentralAbs(g[i]-doubled[i])
 	}
-	return calls + 2*penaltyII10LBFGSCentralDerivativeCost, true
+	return calls, true
 }
 
 // penaltyII10LBFGSCentralGradientError bounds each central difference's error by twice its
@@ -710,8 +825,16 @@ func penaltyII10LBFGSCentralConfirmGradient(x *[10]float64, fx float64, g, e *[1
 func penaltyII10LBFGSCentralGradientError(x *[10]float64, fx float64, g, e *[10]float64, diffs *penaltyII10LBFGSCentralDifferences) {
 	noise := penaltyII10LBFGSCentralNoiseLevel(x, fx, g)
 	for i := range e {
-		h := diffs.ratio[i] * penaltyII10LBFGSCentralLarger(1, penaltyII10LBFGSCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		h, oneSided := penaltyII10LBFGSCentralCentralInterval(x, i, diffs)
+		h = penaltyII10LBFGSCentralAbs(h)
+		switch {
+		case h == 0:
+			e[i] = 0 // fixed by equal bounds
+		case oneSided:
+			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+		default:
+			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		}
 	}
 }
 
@@ -733,6 +856,11 @@ func penaltyII10LBFGSCentralRoundingFloor(x, g, e *[10]float64, diffs *penaltyII
 // calibration, which penaltyII10LBFGSCentralConfirmGradient has just made at x.
 func penaltyII10LBFGSCentralDiagonalCurvature(x, g *[10]float64, diffs *penaltyII10LBFGSCentralDifferences, h *[10]float64) {
 	*h = diffs.second
+}
+
+// penaltyII10LBFGSCentralStationarity measures the gradient itself.
+func penaltyII10LBFGSCentralStationarity(g, e, x *[10]float64, fx float64, b *penaltyII10LBFGSCentralBox) (measure, floor float64) {
+	return penaltyII10LBFGSCentralGradientMeasure(g, e, x, fx)
 }
 
 // penaltyII10LBFGSCentralGradientMeasure is the scale-free measure
@@ -768,6 +896,14 @@ func penaltyII10LBFGSCentralStepWithin(s, x *[10]float64, tol float64) bool {
 	return true
 }
 
+// penaltyII10LBFGSCentralCurvaturePair: without bounds the pair is used as it is.
+func penaltyII10LBFGSCentralCurvaturePair(s, y, x *[10]float64, b *penaltyII10LBFGSCentralBox) {}
+
+// penaltyII10LBFGSCentralSearchDirection is the direction's own.
+func penaltyII10LBFGSCentralSearchDirection(dir *penaltyII10LBFGSCentralDirection, x, g, d *[10]float64, b *penaltyII10LBFGSCentralBox) {
+	dir.compute(g, d)
+}
+
 // penaltyII10LBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func penaltyII10LBFGSCentralTinyStep(x, d *[10]float64, tol float64) float64 {
@@ -795,7 +931,10 @@ func penaltyII10LBFGSCentralTinyStep(x, d *[10]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (penaltyII10LBFGSCentralStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -804,13 +943,17 @@ func penaltyII10LBFGSCentralTinyStep(x, d *[10]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func penaltyII10LBFGSCentralLineSearch(x *[10]float64, fx float64, d *[10]float64, slope, first, tiny float64, budget int, xt, gt *[10]float64, diffs *penaltyII10LBFGSCentralDifferences) penaltyII10LBFGSCentralLineResult {
+func penaltyII10LBFGSCentralLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first, tiny float64, budget int, xt, gt *[10]float64, diffs *penaltyII10LBFGSCentralDifferences) penaltyII10LBFGSCentralLineResult {
 	low := penaltyII10LBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyII10LBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                      // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend penaltyII10LBFGSCentralRiseTrend // of the trials failing sufficient decrease
+	var trend penaltyII10LBFGSCentralRiseTrend                         // of the trials failing sufficient decrease
+	limit := penaltyII10LBFGSCentralStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < penaltyII10LBFGSCentralStepTrials; trial++ {
 		if bracketed && penaltyII10LBFGSCentralAbs(high.step-low.step) <= tiny {
@@ -820,12 +963,12 @@ func penaltyII10LBFGSCentralLineSearch(x *[10]float64, fx float64, d *[10]float6
 			if low.step == 0 {
 				return penaltyII10LBFGSCentralLineResult{calls: calls, rising: trend.contradicts(), end: penaltyII10LBFGSCentralTinyOrExhausted(penaltyII10LBFGSCentralFinite(high.value))}
 			}
-			return penaltyII10LBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return penaltyII10LBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return penaltyII10LBFGSCentralLineResult{calls: calls, end: penaltyII10LBFGSCentralSearchOutOfBudget}
 		}
-		penaltyII10LBFGSCentralMoveTo(xt, x, t, d)
+		penaltyII10LBFGSCentralTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := penaltyII10LBFGSCentralLinePoint{step: t, value: PenaltyII10(xt)}
 		calls++
 		previous := low
@@ -836,8 +979,7 @@ func penaltyII10LBFGSCentralLineSearch(x *[10]float64, fx float64, d *[10]float6
 			if calls+penaltyII10LBFGSCentralDerivativeCost > budget {
 				return penaltyII10LBFGSCentralLineResult{calls: calls, end: penaltyII10LBFGSCentralSearchOutOfBudget}
 			}
-			penaltyII10LBFGSCentralDerivative(xt, current.value, gt, diffs)
-			calls += penaltyII10LBFGSCentralDerivativeCost
+			calls += penaltyII10LBFGSCentralDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = penaltyII10LBFGSCentralDot(gt, d), true
 			switch {
 			case !penaltyII10LBFGSCentralFinite(current.slope):
@@ -848,18 +990,22 @@ func penaltyII10LBFGSCentralLineSearch(x *[10]float64, fx float64, d *[10]float6
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return penaltyII10LBFGSCentralLineResult{step: t, value: current.value, calls: calls, gradient: true, end: penaltyII10LBFGSCentralSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = penaltyII10LBFGSCentralZoomTrial(&low, &high)
-		} else {
-			t = penaltyII10LBFGSCentralExpandTrial(&previous, &current)
+		} else if t = penaltyII10LBFGSCentralExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return penaltyII10LBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return penaltyII10LBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return penaltyII10LBFGSCentralLineResult{calls: calls, rising: trend.contradicts(), end: penaltyII10LBFGSCentralSearchExhausted}
 }
@@ -946,6 +1092,11 @@ func penaltyII10LBFGSCentralFaithfulStep(x, xt, d *[10]float64, t float64) bool 
 	return true
 }
 
+// penaltyII10LBFGSCentralStepCap: without bounds a step may be as long as the search wants.
+func penaltyII10LBFGSCentralStepCap(x, d *[10]float64, tiny float64, b *penaltyII10LBFGSCentralBox) float64 {
+	return math.Inf(1)
+}
+
 // penaltyII10LBFGSCentralTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -970,10 +1121,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func penaltyII10LBFGSCentralAcceptLow(x, d *[10]float64, low *penaltyII10LBFGSCentralLinePoint, lowGradient *[10]float64, calls int, xt, gt *[10]float64) penaltyII10LBFGSCentralLineResult {
-	penaltyII10LBFGSCentralMoveTo(xt, x, low.step, d)
+func penaltyII10LBFGSCentralAcceptLow(x, d *[10]float64, low *penaltyII10LBFGSCentralLinePoint, lowGradient *[10]float64, calls int, xt, gt *[10]float64, diffs *penaltyII10LBFGSCentralDifferences) penaltyII10LBFGSCentralLineResult {
+	penaltyII10LBFGSCentralTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return penaltyII10LBFGSCentralLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: penaltyII10LBFGSCentralSearchAccepted}
+}
+
+// penaltyII10LBFGSCentralTrialPoint is x + t·d.
+func penaltyII10LBFGSCentralTrialPoint(out, x *[10]float64, t float64, d *[10]float64, b *penaltyII10LBFGSCentralBox) {
+	penaltyII10LBFGSCentralMoveTo(out, x, t, d)
 }
 
 // penaltyII10LBFGSCentralMoveTo sets out = x + t·d.

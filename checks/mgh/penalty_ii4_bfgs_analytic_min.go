@@ -88,6 +88,9 @@ func PenaltyII4BFGSAnalyticDefaultLimits() PenaltyII4BFGSAnalyticLimits {
 	}
 }
 
+// penaltyII4BFGSAnalyticBox is empty: mgh.toml sets no bounds on PenaltyII4BFGSAnalytic.
+type penaltyII4BFGSAnalyticBox struct{}
+
 // PenaltyII4BFGSAnalytic minimizes PenaltyII4 from x0, as mgh.toml specifies.
 //
 // Direction bfgs: BFGS quasi-Newton with a dense inverse-Hessian approximation (dim² numbers).
@@ -105,7 +108,7 @@ func PenaltyII4BFGSAnalytic(x0 [4]float64) PenaltyII4BFGSAnalyticResult {
 
 // PenaltyII4BFGSAnalyticWithLimits is PenaltyII4BFGSAnalytic with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func PenaltyII4BFGSAnalyticWithLimits(x0 [4]float64, limits PenaltyII4BFGSAnalyticLimits) PenaltyII4BFGSAnalyticResult {
-	out := penaltyII4BFGSAnalyticMinimize(x0, limits)
+	out := penaltyII4BFGSAnalyticMinimize(x0, limits, penaltyII4BFGSAnalyticBox{})
 	return PenaltyII4BFGSAnalyticResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func penaltyII4BFGSAnalyticMinimize(x0 [4]float64, lim PenaltyII4BFGSAnalyticLimits) penaltyII4BFGSAnalyticOutcome {
-	out := penaltyII4BFGSAnalyticOutcome{x: x0, status: PenaltyII4BFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
+func penaltyII4BFGSAnalyticMinimize(x0 [4]float64, lim PenaltyII4BFGSAnalyticLimits, bounds penaltyII4BFGSAnalyticBox) penaltyII4BFGSAnalyticOutcome {
+	x := x0
+	penaltyII4BFGSAnalyticEnterBox(&x, &bounds)
+	out := penaltyII4BFGSAnalyticOutcome{x: x, status: PenaltyII4BFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := PenaltyII4(&x)
 	out.f, out.evaluations = fx, 1
 	if !penaltyII4BFGSAnalyticFinite(fx) || !penaltyII4BFGSAnalyticFiniteVec(&x) {
 		out.status = PenaltyII4BFGSAnalyticNonFiniteStart
 		return out
 	}
-	var diffs penaltyII4BFGSAnalyticDifferences
+	diffs := penaltyII4BFGSAnalyticDifferences{bounds: bounds}
 	calls, ok := penaltyII4BFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+penaltyII4BFGSAnalyticDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [4]float64
-	penaltyII4BFGSAnalyticDerivative(&x, fx, &g, &diffs)
-	out.evaluations += penaltyII4BFGSAnalyticDerivativeCost
+	out.evaluations += penaltyII4BFGSAnalyticDerivative(&x, fx, &g, &diffs)
 
 	if !penaltyII4BFGSAnalyticFiniteVec(&g) {
 		out.status = PenaltyII4BFGSAnalyticNonFiniteGradient
@@ -211,7 +214,7 @@ func penaltyII4BFGSAnalyticMinimize(x0 [4]float64, lim PenaltyII4BFGSAnalyticLim
 		case !confirmed:
 			penaltyII4BFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := penaltyII4BFGSAnalyticGradientMeasure(&g, &e, &x, fx)
+		measure, floor := penaltyII4BFGSAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, penaltyII4BFGSAnalyticLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func penaltyII4BFGSAnalyticMinimize(x0 [4]float64, lim PenaltyII4BFGSAnalyticLim
 			if rises >= 8 {
 				return best.ending(PenaltyII4BFGSAnalyticDiverged, out.iterations, out.evaluations)
 			}
+			penaltyII4BFGSAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(PenaltyII4BFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		penaltyII4BFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := penaltyII4BFGSAnalyticDot(&g, &d)
 		if !(now < 0) || !penaltyII4BFGSAnalyticFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			penaltyII4BFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = penaltyII4BFGSAnalyticDot(&g, &d)
 		}
 		first := float64(penaltyII4BFGSAnalyticStepInitial)
@@ -267,7 +271,7 @@ func penaltyII4BFGSAnalyticMinimize(x0 [4]float64, lim PenaltyII4BFGSAnalyticLim
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := penaltyII4BFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := penaltyII4BFGSAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := penaltyII4BFGSAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case penaltyII4BFGSAnalyticSearchOutOfBudget:
@@ -303,8 +307,7 @@ func penaltyII4BFGSAnalyticMinimize(x0 [4]float64, lim PenaltyII4BFGSAnalyticLim
 				}
 				return best.ending(PenaltyII4BFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			penaltyII4BFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += penaltyII4BFGSAnalyticDerivativeCost
+			out.evaluations += penaltyII4BFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		penaltyII4BFGSAnalyticDifference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o penaltyII4BFGSAnalyticOutcome) ending(end PenaltyII4BFGSAnalyticStatus, 
 	return o
 }
 
+// penaltyII4BFGSAnalyticEnterBox: without bounds every start is inside.
+func penaltyII4BFGSAnalyticEnterBox(x *[4]float64, b *penaltyII4BFGSAnalyticBox) {}
+
 // penaltyII4BFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func penaltyII4BFGSAnalyticFiniteVec(x *[4]float64) bool {
 	return true
 }
 
-// penaltyII4BFGSAnalyticDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// penaltyII4BFGSAnalyticDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type penaltyII4BFGSAnalyticDifferences struct {
 	ratio     [4]float64
 	curvature [4]float64
 	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see penaltyII4BFGSAnalyticRoundingFloor)
+	bounds    penaltyII4BFGSAnalyticBox
 }
 
 // penaltyII4BFGSAnalyticCalibrate: an analytic gradient needs no intervals.
@@ -384,8 +392,9 @@ func penaltyII4BFGSAnalyticCalibrate(x *[4]float64, fx float64, diffs *penaltyII
 }
 
 // penaltyII4BFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func penaltyII4BFGSAnalyticDerivative(x *[4]float64, fx float64, g *[4]float64, diffs *penaltyII4BFGSAnalyticDifferences) {
+func penaltyII4BFGSAnalyticDerivative(x *[4]float64, fx float64, g *[4]float64, diffs *penaltyII4BFGSAnalyticDifferences) int {
 	PenaltyII4Grad(x, g)
+	return 0
 }
 
 // penaltyII4BFGSAnalyticDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
@@ -525,13 +534,13 @@ func penaltyII4BFGSAnalyticConfirmGradient(x *[4]float64, fx float64, g, e *[4]f
 		wide.ratio[i] *= 2
 	}
 	var doubled [4]float64
-	penaltyII4BFGSAnalyticDerivative(x, fx, g, diffs)
-	penaltyII4BFGSAnalyticDerivative(x, fx, &doubled, &wide)
+	calls += penaltyII4BFGSAnalyticDerivative(x, fx, g, diffs)
+	calls += penaltyII4BFGSAnalyticDerivative(x, fx, &doubled, &wide)
 	penaltyII4BFGSAnalyticGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * penaltyII4BFGSAnalyticAbs(g[i]-doubled[i])
 	}
-	return calls + 2*penaltyII4BFGSAnalyticDerivativeCost, true
+	return calls, true
 }
 
 // penaltyII4BFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
@@ -573,18 +582,60 @@ func penaltyII4BFGSAnalyticDiagonalCurvature(x, g *[4]float64, diffs *penaltyII4
 	var moved [4]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := penaltyII4BFGSAnalyticProbeStep(xi, penaltyII4BFGSAnalyticSquareRoot(penaltyII4BFGSAnalyticUnitRoundoff)*penaltyII4BFGSAnalyticLarger(1, penaltyII4BFGSAnalyticAbs(xi)))
-		probe[i] = up
-		PenaltyII4Grad(&probe, &moved)
-		h[i] = penaltyII4BFGSAnalyticAbs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := penaltyII4BFGSAnalyticCoordinateRange(i, diffs)
+		up, delta := penaltyII4BFGSAnalyticProbeStep(xi, penaltyII4BFGSAnalyticOneSide(xi, penaltyII4BFGSAnalyticSquareRoot(penaltyII4BFGSAnalyticUnitRoundoff)*penaltyII4BFGSAnalyticLarger(1, penaltyII4BFGSAnalyticAbs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			PenaltyII4Grad(&probe, &moved)
+			h[i] = penaltyII4BFGSAnalyticAbs(moved[i]-g[i]) / penaltyII4BFGSAnalyticAbs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// penaltyII4BFGSAnalyticProbeStep returns x_i moved by h, and the step actually representable.
-func penaltyII4BFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// penaltyII4BFGSAnalyticCoordinateRange: without bounds any probe is allowed.
+func penaltyII4BFGSAnalyticCoordinateRange(i int, diffs *penaltyII4BFGSAnalyticDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// penaltyII4BFGSAnalyticProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func penaltyII4BFGSAnalyticProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := penaltyII4BFGSAnalyticClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// penaltyII4BFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func penaltyII4BFGSAnalyticClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// penaltyII4BFGSAnalyticOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func penaltyII4BFGSAnalyticOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // penaltyII4BFGSAnalyticSquareRoot returns √v.
@@ -600,6 +651,11 @@ func penaltyII4BFGSAnalyticLarger(a, b float64) float64 {
 		return a
 	}
 	return b
+}
+
+// penaltyII4BFGSAnalyticStationarity measures the gradient itself.
+func penaltyII4BFGSAnalyticStationarity(g, e, x *[4]float64, fx float64, b *penaltyII4BFGSAnalyticBox) (measure, floor float64) {
+	return penaltyII4BFGSAnalyticGradientMeasure(g, e, x, fx)
 }
 
 // penaltyII4BFGSAnalyticGradientMeasure is the scale-free measure
@@ -635,6 +691,14 @@ func penaltyII4BFGSAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
 	return true
 }
 
+// penaltyII4BFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
+func penaltyII4BFGSAnalyticCurvaturePair(s, y, x *[4]float64, b *penaltyII4BFGSAnalyticBox) {}
+
+// penaltyII4BFGSAnalyticSearchDirection is the direction's own.
+func penaltyII4BFGSAnalyticSearchDirection(dir *penaltyII4BFGSAnalyticDirection, x, g, d *[4]float64, b *penaltyII4BFGSAnalyticBox) {
+	dir.compute(g, d)
+}
+
 // penaltyII4BFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func penaltyII4BFGSAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
@@ -662,7 +726,10 @@ func penaltyII4BFGSAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (penaltyII4BFGSAnalyticStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -671,13 +738,17 @@ func penaltyII4BFGSAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func penaltyII4BFGSAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *penaltyII4BFGSAnalyticDifferences) penaltyII4BFGSAnalyticLineResult {
+func penaltyII4BFGSAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *penaltyII4BFGSAnalyticDifferences) penaltyII4BFGSAnalyticLineResult {
 	low := penaltyII4BFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyII4BFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                      // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend penaltyII4BFGSAnalyticRiseTrend // of the trials failing sufficient decrease
+	var trend penaltyII4BFGSAnalyticRiseTrend                         // of the trials failing sufficient decrease
+	limit := penaltyII4BFGSAnalyticStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < penaltyII4BFGSAnalyticStepTrials; trial++ {
 		if bracketed && penaltyII4BFGSAnalyticAbs(high.step-low.step) <= tiny {
@@ -687,12 +758,12 @@ func penaltyII4BFGSAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64, 
 			if low.step == 0 {
 				return penaltyII4BFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: penaltyII4BFGSAnalyticTinyOrExhausted(penaltyII4BFGSAnalyticFinite(high.value))}
 			}
-			return penaltyII4BFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return penaltyII4BFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return penaltyII4BFGSAnalyticLineResult{calls: calls, end: penaltyII4BFGSAnalyticSearchOutOfBudget}
 		}
-		penaltyII4BFGSAnalyticMoveTo(xt, x, t, d)
+		penaltyII4BFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := penaltyII4BFGSAnalyticLinePoint{step: t, value: PenaltyII4(xt)}
 		calls++
 		previous := low
@@ -703,8 +774,7 @@ func penaltyII4BFGSAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64, 
 			if calls+penaltyII4BFGSAnalyticDerivativeCost > budget {
 				return penaltyII4BFGSAnalyticLineResult{calls: calls, end: penaltyII4BFGSAnalyticSearchOutOfBudget}
 			}
-			penaltyII4BFGSAnalyticDerivative(xt, current.value, gt, diffs)
-			calls += penaltyII4BFGSAnalyticDerivativeCost
+			calls += penaltyII4BFGSAnalyticDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = penaltyII4BFGSAnalyticDot(gt, d), true
 			switch {
 			case !penaltyII4BFGSAnalyticFinite(current.slope):
@@ -715,18 +785,22 @@ func penaltyII4BFGSAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64, 
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return penaltyII4BFGSAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: penaltyII4BFGSAnalyticSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = penaltyII4BFGSAnalyticZoomTrial(&low, &high)
-		} else {
-			t = penaltyII4BFGSAnalyticExpandTrial(&previous, &current)
+		} else if t = penaltyII4BFGSAnalyticExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return penaltyII4BFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return penaltyII4BFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return penaltyII4BFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: penaltyII4BFGSAnalyticSearchExhausted}
 }
@@ -813,6 +887,11 @@ func penaltyII4BFGSAnalyticFaithfulStep(x, xt, d *[4]float64, t float64) bool {
 	return true
 }
 
+// penaltyII4BFGSAnalyticStepCap: without bounds a step may be as long as the search wants.
+func penaltyII4BFGSAnalyticStepCap(x, d *[4]float64, tiny float64, b *penaltyII4BFGSAnalyticBox) float64 {
+	return math.Inf(1)
+}
+
 // penaltyII4BFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -837,10 +916,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func penaltyII4BFGSAnalyticAcceptLow(x, d *[4]float64, low *penaltyII4BFGSAnalyticLinePoint, lowGradient *[4]float64, calls int, xt, gt *[4]float64) penaltyII4BFGSAnalyticLineResult {
-	penaltyII4BFGSAnalyticMoveTo(xt, x, low.step, d)
+func penaltyII4BFGSAnalyticAcceptLow(x, d *[4]float64, low *penaltyII4BFGSAnalyticLinePoint, lowGradient *[4]float64, calls int, xt, gt *[4]float64, diffs *penaltyII4BFGSAnalyticDifferences) penaltyII4BFGSAnalyticLineResult {
+	penaltyII4BFGSAnalyticTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return penaltyII4BFGSAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: penaltyII4BFGSAnalyticSearchAccepted}
+}
+
+// penaltyII4BFGSAnalyticTrialPoint is x + t·d.
+func penaltyII4BFGSAnalyticTrialPoint(out, x *[4]float64, t float64, d *[4]float64, b *penaltyII4BFGSAnalyticBox) {
+	penaltyII4BFGSAnalyticMoveTo(out, x, t, d)
 }
 
 // penaltyII4BFGSAnalyticMoveTo sets out = x + t·d.
@@ -895,21 +979,6 @@ func penaltyII4BFGSAnalyticModelMinimizer(a, b *penaltyII4BFGSAnalyticLinePoint)
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, penaltyII4BFGSAnalyticFinite(t)
-}
-
-// penaltyII4BFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func penaltyII4BFGSAnalyticClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // penaltyII4BFGSAnalyticExpandTrial picks a larger trial after current met sufficient decrease

@@ -88,6 +88,9 @@ func PenaltyII4BFGSCentralDefaultLimits() PenaltyII4BFGSCentralLimits {
 	}
 }
 
+// penaltyII4BFGSCentralBox is empty: mgh.toml sets no bounds on PenaltyII4BFGSCentral.
+type penaltyII4BFGSCentralBox struct{}
+
 // PenaltyII4BFGSCentral minimizes PenaltyII4 from x0, as mgh.toml specifies.
 //
 // Direction bfgs: BFGS quasi-Newton with a dense inverse-Hessian approximation (dim² numbers).
@@ -105,7 +108,7 @@ func PenaltyII4BFGSCentral(x0 [4]float64) PenaltyII4BFGSCentralResult {
 
 // PenaltyII4BFGSCentralWithLimits is PenaltyII4BFGSCentral with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func PenaltyII4BFGSCentralWithLimits(x0 [4]float64, limits PenaltyII4BFGSCentralLimits) PenaltyII4BFGSCentralResult {
-	out := penaltyII4BFGSCentralMinimize(x0, limits)
+	out := penaltyII4BFGSCentralMinimize(x0, limits, penaltyII4BFGSCentralBox{})
 	return PenaltyII4BFGSCentralResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func penaltyII4BFGSCentralMinimize(x0 [4]float64, lim PenaltyII4BFGSCentralLimits) penaltyII4BFGSCentralOutcome {
-	out := penaltyII4BFGSCentralOutcome{x: x0, status: PenaltyII4BFGSCentralOutOfEvaluations, gradient: math.NaN()}
+func penaltyII4BFGSCentralMinimize(x0 [4]float64, lim PenaltyII4BFGSCentralLimits, bounds penaltyII4BFGSCentralBox) penaltyII4BFGSCentralOutcome {
+	x := x0
+	penaltyII4BFGSCentralEnterBox(&x, &bounds)
+	out := penaltyII4BFGSCentralOutcome{x: x, status: PenaltyII4BFGSCentralOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := PenaltyII4(&x)
 	out.f, out.evaluations = fx, 1
 	if !penaltyII4BFGSCentralFinite(fx) || !penaltyII4BFGSCentralFiniteVec(&x) {
 		out.status = PenaltyII4BFGSCentralNonFiniteStart
 		return out
 	}
-	var diffs penaltyII4BFGSCentralDifferences
+	diffs := penaltyII4BFGSCentralDifferences{bounds: bounds}
 	calls, ok := penaltyII4BFGSCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+penaltyII4BFGSCentralDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [4]float64
-	penaltyII4BFGSCentralDerivative(&x, fx, &g, &diffs)
-	out.evaluations += penaltyII4BFGSCentralDerivativeCost
+	out.evaluations += penaltyII4BFGSCentralDerivative(&x, fx, &g, &diffs)
 
 	if !penaltyII4BFGSCentralFiniteVec(&g) {
 		out.status = PenaltyII4BFGSCentralNonFiniteGradient
@@ -211,7 +214,7 @@ func penaltyII4BFGSCentralMinimize(x0 [4]float64, lim PenaltyII4BFGSCentralLimit
 		case !confirmed:
 			penaltyII4BFGSCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := penaltyII4BFGSCentralGradientMeasure(&g, &e, &x, fx)
+		measure, floor := penaltyII4BFGSCentralStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, penaltyII4BFGSCentralLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func penaltyII4BFGSCentralMinimize(x0 [4]float64, lim PenaltyII4BFGSCentralLimit
 			if rises >= 8 {
 				return best.ending(PenaltyII4BFGSCentralDiverged, out.iterations, out.evaluations)
 			}
+			penaltyII4BFGSCentralCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(PenaltyII4BFGSCentralOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		penaltyII4BFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := penaltyII4BFGSCentralDot(&g, &d)
 		if !(now < 0) || !penaltyII4BFGSCentralFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			penaltyII4BFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = penaltyII4BFGSCentralDot(&g, &d)
 		}
 		first := float64(penaltyII4BFGSCentralStepInitial)
@@ -267,7 +271,7 @@ func penaltyII4BFGSCentralMinimize(x0 [4]float64, lim PenaltyII4BFGSCentralLimit
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := penaltyII4BFGSCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := penaltyII4BFGSCentralLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := penaltyII4BFGSCentralLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case penaltyII4BFGSCentralSearchOutOfBudget:
@@ -303,8 +307,7 @@ func penaltyII4BFGSCentralMinimize(x0 [4]float64, lim PenaltyII4BFGSCentralLimit
 				}
 				return best.ending(PenaltyII4BFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			penaltyII4BFGSCentralDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += penaltyII4BFGSCentralDerivativeCost
+			out.evaluations += penaltyII4BFGSCentralDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		penaltyII4BFGSCentralDifference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o penaltyII4BFGSCentralOutcome) ending(end PenaltyII4BFGSCentralStatus, it
 	return o
 }
 
+// penaltyII4BFGSCentralEnterBox: without bounds every start is inside.
+func penaltyII4BFGSCentralEnterBox(x *[4]float64, b *penaltyII4BFGSCentralBox) {}
+
 // penaltyII4BFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func penaltyII4BFGSCentralFiniteVec(x *[4]float64) bool {
 	return true
 }
 
-// penaltyII4BFGSCentralDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// penaltyII4BFGSCentralDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type penaltyII4BFGSCentralDifferences struct {
 	ratio     [4]float64
 	curvature [4]float64
 	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see penaltyII4BFGSCentralRoundingFloor)
+	bounds    penaltyII4BFGSCentralBox
 }
 
 // penaltyII4BFGSCentralCalibrate chooses each central-difference interval from the
@@ -397,19 +405,45 @@ func penaltyII4BFGSCentralCalibrate(x *[4]float64, fx float64, diffs *penaltyII4
 	var slope [4]float64
 	scale := penaltyII4BFGSCentralAbs(fx)
 	quarter := penaltyII4BFGSCentralSquareRoot(penaltyII4BFGSCentralSquareRoot(penaltyII4BFGSCentralUnitRoundoff)) // u^(1/4)
+	calls := 0
 	for i := range probe {
-		if 4*(i+1) > budget {
-			return 4 * i, false
+		if calls+4 > budget {
+			return calls, false
 		}
 		xi := probe[i]
 		bar := quarter * penaltyII4BFGSCentralLarger(1, penaltyII4BFGSCentralAbs(xi))
+		lower, upper := penaltyII4BFGSCentralCoordinateRange(i, diffs)
+		if xi+2*bar > upper || xi-2*bar < lower {
+			// At a bound: three probes on the side with room, at h, 2h
+			// and 3h, for f‴ ≈ (f(3h) − 3f(2h) + 3f(h) − f(0))/h³ (the
+			// third forward difference).
+			h := penaltyII4BFGSCentralOneSide(xi, bar, 3, lower, upper)
+			if h == 0 {
+				continue // fixed by equal bounds
+			}
+			var f [3]float64
+			for k := range f {
+				probe[i], _ = penaltyII4BFGSCentralProbeStep(xi, float64(k+1)*h, lower, upper)
+				f[k] = PenaltyII4(&probe)
+				scale = penaltyII4BFGSCentralLarger(scale, penaltyII4BFGSCentralMagnitude(f[k]))
+			}
+			probe[i] = xi
+			calls += 3
+			if penaltyII4BFGSCentralFinite(f[0]) && penaltyII4BFGSCentralFinite(f[1]) && penaltyII4BFGSCentralFinite(f[2]) {
+				diffs.curvature[i] = penaltyII4BFGSCentralAbs(f[2]-3*f[1]+3*f[0]-fx) / penaltyII4BFGSCentralAbs(h*h*h)
+				diffs.second[i] = penaltyII4BFGSCentralAbs(fx-2*f[0]+f[1]) / (h * h)
+				slope[i] = (-3*fx + 4*f[0] - f[1]) / (2 * h)
+			}
+			continue
+		}
 		var f [4]float64
 		for k, m := range [4]float64{2, 1, -1, -2} {
-			probe[i], _ = penaltyII4BFGSCentralProbeStep(xi, m*bar)
+			probe[i], _ = penaltyII4BFGSCentralProbeStep(xi, m*bar, lower, upper)
 			f[k] = PenaltyII4(&probe)
 			scale = penaltyII4BFGSCentralLarger(scale, penaltyII4BFGSCentralMagnitude(f[k]))
 		}
 		probe[i] = xi
+		calls += 4
 		if penaltyII4BFGSCentralFinite(f[0]) && penaltyII4BFGSCentralFinite(f[1]) && penaltyII4BFGSCentralFinite(f[2]) && penaltyII4BFGSCentralFinite(f[3]) {
 			diffs.curvature[i] = penaltyII4BFGSCentralAbs(f[0]-2*f[1]+2*f[2]-f[3]) / (2 * bar * bar * bar)
 			diffs.second[i] = penaltyII4BFGSCentralAbs(f[1]-2*fx+f[2]) / (bar * bar)
@@ -428,7 +462,7 @@ func penaltyII4BFGSCentralCalibrate(x *[4]float64, fx float64, diffs *penaltyII4
 		diffs.ratio[i] = penaltyII4BFGSCentralClampBetween(h, 64*penaltyII4BFGSCentralUnitRoundoff*s, bar) / s
 		diffs.curvature[i] = third
 	}
-	return 4 * len(probe), true
+	return calls, true
 }
 
 // penaltyII4BFGSCentralAbs returns |v|.
@@ -454,10 +488,48 @@ func penaltyII4BFGSCentralLarger(a, b float64) float64 {
 	return b
 }
 
-// penaltyII4BFGSCentralProbeStep returns x_i moved by h, and the step actually representable.
-func penaltyII4BFGSCentralProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// penaltyII4BFGSCentralCoordinateRange: without bounds any probe is allowed.
+func penaltyII4BFGSCentralCoordinateRange(i int, diffs *penaltyII4BFGSCentralDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// penaltyII4BFGSCentralOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func penaltyII4BFGSCentralOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
+}
+
+// penaltyII4BFGSCentralProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func penaltyII4BFGSCentralProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := penaltyII4BFGSCentralClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// penaltyII4BFGSCentralClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func penaltyII4BFGSCentralClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
 }
 
 // penaltyII4BFGSCentralMagnitude is |v| for a finite v and 0 otherwise: a probe that fell
@@ -493,42 +565,85 @@ func penaltyII4BFGSCentralCubeRoot(v float64) float64 {
 	return math.Cbrt(v)
 }
 
-// penaltyII4BFGSCentralClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func penaltyII4BFGSCentralClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
-}
-
 // penaltyII4BFGSCentralDerivative approximates the gradient by central differences,
 //
 //	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),
 //
 // with the intervals penaltyII4BFGSCentralCalibrate chose, h_i = ratio_i·max(1, |x_i|)
-// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls; fx is
-// not needed.
-func penaltyII4BFGSCentralDerivative(x *[4]float64, fx float64, g *[4]float64, diffs *penaltyII4BFGSCentralDifferences) {
+// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls. Where
+// a bound leaves no room on one side, the three-point endpoint formula on
+// the other side takes its place at the same cost (see parabola); a
+// variable fixed by equal bounds costs nothing and gets 0.
+func penaltyII4BFGSCentralDerivative(x *[4]float64, fx float64, g *[4]float64, diffs *penaltyII4BFGSCentralDifferences) int {
 	probe := *x
+	calls := 0
 	for i := range probe {
 		xi := probe[i]
-		h := diffs.ratio[i] * penaltyII4BFGSCentralLarger(1, penaltyII4BFGSCentralAbs(xi))
-		up, _ := penaltyII4BFGSCentralProbeStep(xi, h)
-		down, _ := penaltyII4BFGSCentralProbeStep(xi, -h)
-		probe[i] = up
-		fUp := PenaltyII4(&probe)
-		probe[i] = down
-		fDown := PenaltyII4(&probe)
-		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
-		probe[i] = xi
+		h, oneSided := penaltyII4BFGSCentralCentralInterval(x, i, diffs)
+		lower, upper := penaltyII4BFGSCentralCoordinateRange(i, diffs)
+		switch {
+		case h == 0:
+			g[i] = 0 // fixed by equal bounds
+			continue
+		case oneSided:
+			g[i], _, _ = penaltyII4BFGSCentralSidedProbes(&probe, i, fx, h, lower, upper) // the three-point endpoint formula
+		default:
+			up, _ := penaltyII4BFGSCentralProbeStep(xi, h, lower, upper)
+			down, _ := penaltyII4BFGSCentralProbeStep(xi, -h, lower, upper)
+			probe[i] = up
+			fUp := PenaltyII4(&probe)
+			probe[i] = down
+			fDown := PenaltyII4(&probe)
+			g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+			probe[i] = xi
+		}
+		calls += 2
 	}
+	return calls
+}
+
+// penaltyII4BFGSCentralCentralInterval is the interval of coordinate i at x, ratio_i·max(1,
+// |x_i|), and whether the box leaves room for probes on both sides; when
+// it does not, the interval is signed towards the side with room for
+// probes at h and 2h, and shortened where the box is narrower than that
+// (see penaltyII4BFGSCentralOneSide).
+func penaltyII4BFGSCentralCentralInterval(x *[4]float64, i int, diffs *penaltyII4BFGSCentralDifferences) (h float64, oneSided bool) {
+	lower, upper := penaltyII4BFGSCentralCoordinateRange(i, diffs)
+	h = diffs.ratio[i] * penaltyII4BFGSCentralLarger(1, penaltyII4BFGSCentralAbs(x[i]))
+	if x[i]+h <= upper && x[i]-h >= lower {
+		return h, false
+	}
+	return penaltyII4BFGSCentralOneSide(x[i], h, 2, lower, upper), true
+}
+
+// penaltyII4BFGSCentralSidedProbes evaluates f at x moved along coordinate i by h and by 2h,
+// kept within [lower, upper], and returns the slope and second derivative
+// of the parabola through them and (x, fx) (see parabola), and the larger
+// magnitude of the two values.
+func penaltyII4BFGSCentralSidedProbes(probe *[4]float64, i int, fx, h, lower, upper float64) (slope, second, size float64) {
+	xi := probe[i]
+	near, a := penaltyII4BFGSCentralProbeStep(xi, h, lower, upper)
+	far, b := penaltyII4BFGSCentralProbeStep(xi, 2*h, lower, upper)
+	probe[i] = near
+	fNear := PenaltyII4(probe)
+	probe[i] = far
+	fFar := PenaltyII4(probe)
+	probe[i] = xi
+	slope, second = penaltyII4BFGSCentralParabola(fx, a, fNear, b, fFar)
+	return slope, second, penaltyII4BFGSCentralLarger(penaltyII4BFGSCentralMagnitude(fNear), penaltyII4BFGSCentralMagnitude(fFar))
+}
+
+// penaltyII4BFGSCentralParabola returns the first and second derivatives at 0 of the parabola
+// through (0, f0), (a, fa) and (b, fb), for probes on one side of a bound.
+// With b = 2a they are the three-point endpoint formulas
+// f′ ≈ (−3f0 + 4fa − fb)/(2a), error a²|f‴|/3, and
+// f″ ≈ (f0 − 2fa + fb)/a² (Burden & Faires, Numerical Analysis, §4.1
+// and §4.1's second-derivative formulas, from memory); written for unequal
+// a and b, so that the representable steps can be used.
+func penaltyII4BFGSCentralParabola(f0, a, fa, b, fb float64) (slope, second float64) {
+	slope = -(a+b)/(a*b)*f0 + b/(a*(b-a))*fa - a/(b*(b-a))*fb
+	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
+	return slope, second
 }
 
 // penaltyII4BFGSCentralDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
@@ -668,13 +783,13 @@ func penaltyII4BFGSCentralConfirmGradient(x *[4]float64, fx float64, g, e *[4]fl
 		wide.ratio[i] *= 2
 	}
 	var doubled [4]float64
-	penaltyII4BFGSCentralDerivative(x, fx, g, diffs)
-	penaltyII4BFGSCentralDerivative(x, fx, &doubled, &wide)
+	calls += penaltyII4BFGSCentralDerivative(x, fx, g, diffs)
+	calls += penaltyII4BFGSCentralDerivative(x, fx, &doubled, &wide)
 	penaltyII4BFGSCentralGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * penaltyII4BFGSCentralAbs(g[i]-doubled[i])
 	}
-	return calls + 2*penaltyII4BFGSCentralDerivativeCost, true
+	return calls, true
 }
 
 // penaltyII4BFGSCentralGradientError bounds each central difference's error by twice its
@@ -684,8 +799,16 @@ func penaltyII4BFGSCentralConfirmGradient(x *[4]float64, fx float64, g, e *[4]fl
 func penaltyII4BFGSCentralGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *penaltyII4BFGSCentralDifferences) {
 	noise := penaltyII4BFGSCentralNoiseLevel(x, fx, g)
 	for i := range e {
-		h := diffs.ratio[i] * penaltyII4BFGSCentralLarger(1, penaltyII4BFGSCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		h, oneSided := penaltyII4BFGSCentralCentralInterval(x, i, diffs)
+		h = penaltyII4BFGSCentralAbs(h)
+		switch {
+		case h == 0:
+			e[i] = 0 // fixed by equal bounds
+		case oneSided:
+			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+		default:
+			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		}
 	}
 }
 
@@ -707,6 +830,11 @@ func penaltyII4BFGSCentralRoundingFloor(x, g, e *[4]float64, diffs *penaltyII4BF
 // calibration, which penaltyII4BFGSCentralConfirmGradient has just made at x.
 func penaltyII4BFGSCentralDiagonalCurvature(x, g *[4]float64, diffs *penaltyII4BFGSCentralDifferences, h *[4]float64) {
 	*h = diffs.second
+}
+
+// penaltyII4BFGSCentralStationarity measures the gradient itself.
+func penaltyII4BFGSCentralStationarity(g, e, x *[4]float64, fx float64, b *penaltyII4BFGSCentralBox) (measure, floor float64) {
+	return penaltyII4BFGSCentralGradientMeasure(g, e, x, fx)
 }
 
 // penaltyII4BFGSCentralGradientMeasure is the scale-free measure
@@ -742,6 +870,14 @@ func penaltyII4BFGSCentralStepWithin(s, x *[4]float64, tol float64) bool {
 	return true
 }
 
+// penaltyII4BFGSCentralCurvaturePair: without bounds the pair is used as it is.
+func penaltyII4BFGSCentralCurvaturePair(s, y, x *[4]float64, b *penaltyII4BFGSCentralBox) {}
+
+// penaltyII4BFGSCentralSearchDirection is the direction's own.
+func penaltyII4BFGSCentralSearchDirection(dir *penaltyII4BFGSCentralDirection, x, g, d *[4]float64, b *penaltyII4BFGSCentralBox) {
+	dir.compute(g, d)
+}
+
 // penaltyII4BFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func penaltyII4BFGSCentralTinyStep(x, d *[4]float64, tol float64) float64 {
@@ -769,7 +905,10 @@ func penaltyII4BFGSCentralTinyStep(x, d *[4]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (penaltyII4BFGSCentralStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -778,13 +917,17 @@ func penaltyII4BFGSCentralTinyStep(x, d *[4]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func penaltyII4BFGSCentralLineSearch(x *[4]float64, fx float64, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *penaltyII4BFGSCentralDifferences) penaltyII4BFGSCentralLineResult {
+func penaltyII4BFGSCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *penaltyII4BFGSCentralDifferences) penaltyII4BFGSCentralLineResult {
 	low := penaltyII4BFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyII4BFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                     // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend penaltyII4BFGSCentralRiseTrend // of the trials failing sufficient decrease
+	var trend penaltyII4BFGSCentralRiseTrend                         // of the trials failing sufficient decrease
+	limit := penaltyII4BFGSCentralStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < penaltyII4BFGSCentralStepTrials; trial++ {
 		if bracketed && penaltyII4BFGSCentralAbs(high.step-low.step) <= tiny {
@@ -794,12 +937,12 @@ func penaltyII4BFGSCentralLineSearch(x *[4]float64, fx float64, d *[4]float64, s
 			if low.step == 0 {
 				return penaltyII4BFGSCentralLineResult{calls: calls, rising: trend.contradicts(), end: penaltyII4BFGSCentralTinyOrExhausted(penaltyII4BFGSCentralFinite(high.value))}
 			}
-			return penaltyII4BFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return penaltyII4BFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return penaltyII4BFGSCentralLineResult{calls: calls, end: penaltyII4BFGSCentralSearchOutOfBudget}
 		}
-		penaltyII4BFGSCentralMoveTo(xt, x, t, d)
+		penaltyII4BFGSCentralTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := penaltyII4BFGSCentralLinePoint{step: t, value: PenaltyII4(xt)}
 		calls++
 		previous := low
@@ -810,8 +953,7 @@ func penaltyII4BFGSCentralLineSearch(x *[4]float64, fx float64, d *[4]float64, s
 			if calls+penaltyII4BFGSCentralDerivativeCost > budget {
 				return penaltyII4BFGSCentralLineResult{calls: calls, end: penaltyII4BFGSCentralSearchOutOfBudget}
 			}
-			penaltyII4BFGSCentralDerivative(xt, current.value, gt, diffs)
-			calls += penaltyII4BFGSCentralDerivativeCost
+			calls += penaltyII4BFGSCentralDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = penaltyII4BFGSCentralDot(gt, d), true
 			switch {
 			case !penaltyII4BFGSCentralFinite(current.slope):
@@ -822,18 +964,22 @@ func penaltyII4BFGSCentralLineSearch(x *[4]float64, fx float64, d *[4]float64, s
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return penaltyII4BFGSCentralLineResult{step: t, value: current.value, calls: calls, gradient: true, end: penaltyII4BFGSCentralSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = penaltyII4BFGSCentralZoomTrial(&low, &high)
-		} else {
-			t = penaltyII4BFGSCentralExpandTrial(&previous, &current)
+		} else if t = penaltyII4BFGSCentralExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return penaltyII4BFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return penaltyII4BFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return penaltyII4BFGSCentralLineResult{calls: calls, rising: trend.contradicts(), end: penaltyII4BFGSCentralSearchExhausted}
 }
@@ -920,6 +1066,11 @@ func penaltyII4BFGSCentralFaithfulStep(x, xt, d *[4]float64, t float64) bool {
 	return true
 }
 
+// penaltyII4BFGSCentralStepCap: without bounds a step may be as long as the search wants.
+func penaltyII4BFGSCentralStepCap(x, d *[4]float64, tiny float64, b *penaltyII4BFGSCentralBox) float64 {
+	return math.Inf(1)
+}
+
 // penaltyII4BFGSCentralTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -944,10 +1095,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func penaltyII4BFGSCentralAcceptLow(x, d *[4]float64, low *penaltyII4BFGSCentralLinePoint, lowGradient *[4]float64, calls int, xt, gt *[4]float64) penaltyII4BFGSCentralLineResult {
-	penaltyII4BFGSCentralMoveTo(xt, x, low.step, d)
+func penaltyII4BFGSCentralAcceptLow(x, d *[4]float64, low *penaltyII4BFGSCentralLinePoint, lowGradient *[4]float64, calls int, xt, gt *[4]float64, diffs *penaltyII4BFGSCentralDifferences) penaltyII4BFGSCentralLineResult {
+	penaltyII4BFGSCentralTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return penaltyII4BFGSCentralLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: penaltyII4BFGSCentralSearchAccepted}
+}
+
+// penaltyII4BFGSCentralTrialPoint is x + t·d.
+func penaltyII4BFGSCentralTrialPoint(out, x *[4]float64, t float64, d *[4]float64, b *penaltyII4BFGSCentralBox) {
+	penaltyII4BFGSCentralMoveTo(out, x, t, d)
 }
 
 // penaltyII4BFGSCentralMoveTo sets out = x + t·d.

@@ -88,6 +88,9 @@ func PenaltyII4CGAnalyticDefaultLimits() PenaltyII4CGAnalyticLimits {
 	}
 }
 
+// penaltyII4CGAnalyticBox is empty: mgh.toml sets no bounds on PenaltyII4CGAnalytic.
+type penaltyII4CGAnalyticBox struct{}
+
 // PenaltyII4CGAnalytic minimizes PenaltyII4 from x0, as mgh.toml specifies.
 //
 // Direction cg: nonlinear conjugate gradients, Polak–Ribière clipped at zero (PR+), restarted every dim steps.
@@ -105,7 +108,7 @@ func PenaltyII4CGAnalytic(x0 [4]float64) PenaltyII4CGAnalyticResult {
 
 // PenaltyII4CGAnalyticWithLimits is PenaltyII4CGAnalytic with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func PenaltyII4CGAnalyticWithLimits(x0 [4]float64, limits PenaltyII4CGAnalyticLimits) PenaltyII4CGAnalyticResult {
-	out := penaltyII4CGAnalyticMinimize(x0, limits)
+	out := penaltyII4CGAnalyticMinimize(x0, limits, penaltyII4CGAnalyticBox{})
 	return PenaltyII4CGAnalyticResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func penaltyII4CGAnalyticMinimize(x0 [4]float64, lim PenaltyII4CGAnalyticLimits) penaltyII4CGAnalyticOutcome {
-	out := penaltyII4CGAnalyticOutcome{x: x0, status: PenaltyII4CGAnalyticOutOfEvaluations, gradient: math.NaN()}
+func penaltyII4CGAnalyticMinimize(x0 [4]float64, lim PenaltyII4CGAnalyticLimits, bounds penaltyII4CGAnalyticBox) penaltyII4CGAnalyticOutcome {
+	x := x0
+	penaltyII4CGAnalyticEnterBox(&x, &bounds)
+	out := penaltyII4CGAnalyticOutcome{x: x, status: PenaltyII4CGAnalyticOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := PenaltyII4(&x)
 	out.f, out.evaluations = fx, 1
 	if !penaltyII4CGAnalyticFinite(fx) || !penaltyII4CGAnalyticFiniteVec(&x) {
 		out.status = PenaltyII4CGAnalyticNonFiniteStart
 		return out
 	}
-	var diffs penaltyII4CGAnalyticDifferences
+	diffs := penaltyII4CGAnalyticDifferences{bounds: bounds}
 	calls, ok := penaltyII4CGAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+penaltyII4CGAnalyticDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [4]float64
-	penaltyII4CGAnalyticDerivative(&x, fx, &g, &diffs)
-	out.evaluations += penaltyII4CGAnalyticDerivativeCost
+	out.evaluations += penaltyII4CGAnalyticDerivative(&x, fx, &g, &diffs)
 
 	if !penaltyII4CGAnalyticFiniteVec(&g) {
 		out.status = PenaltyII4CGAnalyticNonFiniteGradient
@@ -211,7 +214,7 @@ func penaltyII4CGAnalyticMinimize(x0 [4]float64, lim PenaltyII4CGAnalyticLimits)
 		case !confirmed:
 			penaltyII4CGAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := penaltyII4CGAnalyticGradientMeasure(&g, &e, &x, fx)
+		measure, floor := penaltyII4CGAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, penaltyII4CGAnalyticLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func penaltyII4CGAnalyticMinimize(x0 [4]float64, lim PenaltyII4CGAnalyticLimits)
 			if rises >= 8 {
 				return best.ending(PenaltyII4CGAnalyticDiverged, out.iterations, out.evaluations)
 			}
+			penaltyII4CGAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(PenaltyII4CGAnalyticOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		penaltyII4CGAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := penaltyII4CGAnalyticDot(&g, &d)
 		if !(now < 0) || !penaltyII4CGAnalyticFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			penaltyII4CGAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = penaltyII4CGAnalyticDot(&g, &d)
 		}
 		first := float64(penaltyII4CGAnalyticStepInitial)
@@ -267,7 +271,7 @@ func penaltyII4CGAnalyticMinimize(x0 [4]float64, lim PenaltyII4CGAnalyticLimits)
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := penaltyII4CGAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := penaltyII4CGAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := penaltyII4CGAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case penaltyII4CGAnalyticSearchOutOfBudget:
@@ -303,8 +307,7 @@ func penaltyII4CGAnalyticMinimize(x0 [4]float64, lim PenaltyII4CGAnalyticLimits)
 				}
 				return best.ending(PenaltyII4CGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			penaltyII4CGAnalyticDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += penaltyII4CGAnalyticDerivativeCost
+			out.evaluations += penaltyII4CGAnalyticDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		penaltyII4CGAnalyticDifference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o penaltyII4CGAnalyticOutcome) ending(end PenaltyII4CGAnalyticStatus, iter
 	return o
 }
 
+// penaltyII4CGAnalyticEnterBox: without bounds every start is inside.
+func penaltyII4CGAnalyticEnterBox(x *[4]float64, b *penaltyII4CGAnalyticBox) {}
+
 // penaltyII4CGAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func penaltyII4CGAnalyticFiniteVec(x *[4]float64) bool {
 	return true
 }
 
-// penaltyII4CGAnalyticDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// penaltyII4CGAnalyticDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type penaltyII4CGAnalyticDifferences struct {
 	ratio     [4]float64
 	curvature [4]float64
 	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see penaltyII4CGAnalyticRoundingFloor)
+	bounds    penaltyII4CGAnalyticBox
 }
 
 // penaltyII4CGAnalyticCalibrate: an analytic gradient needs no intervals.
@@ -384,8 +392,9 @@ func penaltyII4CGAnalyticCalibrate(x *[4]float64, fx float64, diffs *penaltyII4C
 }
 
 // penaltyII4CGAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func penaltyII4CGAnalyticDerivative(x *[4]float64, fx float64, g *[4]float64, diffs *penaltyII4CGAnalyticDifferences) {
+func penaltyII4CGAnalyticDerivative(x *[4]float64, fx float64, g *[4]float64, diffs *penaltyII4CGAnalyticDifferences) int {
 	PenaltyII4Grad(x, g)
+	return 0
 }
 
 // penaltyII4CGAnalyticDirection is nonlinear conjugate gradients with the Polak–Ribière
@@ -517,13 +526,13 @@ func penaltyII4CGAnalyticConfirmGradient(x *[4]float64, fx float64, g, e *[4]flo
 		wide.ratio[i] *= 2
 	}
 	var doubled [4]float64
-	penaltyII4CGAnalyticDerivative(x, fx, g, diffs)
-	penaltyII4CGAnalyticDerivative(x, fx, &doubled, &wide)
+	calls += penaltyII4CGAnalyticDerivative(x, fx, g, diffs)
+	calls += penaltyII4CGAnalyticDerivative(x, fx, &doubled, &wide)
 	penaltyII4CGAnalyticGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * penaltyII4CGAnalyticAbs(g[i]-doubled[i])
 	}
-	return calls + 2*penaltyII4CGAnalyticDerivativeCost, true
+	return calls, true
 }
 
 // penaltyII4CGAnalyticGradientError: the analytic gradient is taken as exact; its error is
@@ -565,23 +574,70 @@ func penaltyII4CGAnalyticDiagonalCurvature(x, g *[4]float64, diffs *penaltyII4CG
 	var moved [4]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := penaltyII4CGAnalyticProbeStep(xi, penaltyII4CGAnalyticSquareRoot(penaltyII4CGAnalyticUnitRoundoff)*penaltyII4CGAnalyticLarger(1, penaltyII4CGAnalyticAbs(xi)))
-		probe[i] = up
-		PenaltyII4Grad(&probe, &moved)
-		h[i] = penaltyII4CGAnalyticAbs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := penaltyII4CGAnalyticCoordinateRange(i, diffs)
+		up, delta := penaltyII4CGAnalyticProbeStep(xi, penaltyII4CGAnalyticOneSide(xi, penaltyII4CGAnalyticSquareRoot(penaltyII4CGAnalyticUnitRoundoff)*penaltyII4CGAnalyticLarger(1, penaltyII4CGAnalyticAbs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			PenaltyII4Grad(&probe, &moved)
+			h[i] = penaltyII4CGAnalyticAbs(moved[i]-g[i]) / penaltyII4CGAnalyticAbs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// penaltyII4CGAnalyticProbeStep returns x_i moved by h, and the step actually representable.
-func penaltyII4CGAnalyticProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// penaltyII4CGAnalyticCoordinateRange: without bounds any probe is allowed.
+func penaltyII4CGAnalyticCoordinateRange(i int, diffs *penaltyII4CGAnalyticDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// penaltyII4CGAnalyticProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func penaltyII4CGAnalyticProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := penaltyII4CGAnalyticClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// penaltyII4CGAnalyticClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func penaltyII4CGAnalyticClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// penaltyII4CGAnalyticOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func penaltyII4CGAnalyticOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // penaltyII4CGAnalyticSquareRoot returns √v.
 func penaltyII4CGAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// penaltyII4CGAnalyticStationarity measures the gradient itself.
+func penaltyII4CGAnalyticStationarity(g, e, x *[4]float64, fx float64, b *penaltyII4CGAnalyticBox) (measure, floor float64) {
+	return penaltyII4CGAnalyticGradientMeasure(g, e, x, fx)
 }
 
 // penaltyII4CGAnalyticGradientMeasure is the scale-free measure
@@ -617,6 +673,14 @@ func penaltyII4CGAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
 	return true
 }
 
+// penaltyII4CGAnalyticCurvaturePair: without bounds the pair is used as it is.
+func penaltyII4CGAnalyticCurvaturePair(s, y, x *[4]float64, b *penaltyII4CGAnalyticBox) {}
+
+// penaltyII4CGAnalyticSearchDirection is the direction's own.
+func penaltyII4CGAnalyticSearchDirection(dir *penaltyII4CGAnalyticDirection, x, g, d *[4]float64, b *penaltyII4CGAnalyticBox) {
+	dir.compute(g, d)
+}
+
 // penaltyII4CGAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func penaltyII4CGAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
@@ -644,7 +708,10 @@ func penaltyII4CGAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (penaltyII4CGAnalyticStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -653,13 +720,17 @@ func penaltyII4CGAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func penaltyII4CGAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *penaltyII4CGAnalyticDifferences) penaltyII4CGAnalyticLineResult {
+func penaltyII4CGAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *penaltyII4CGAnalyticDifferences) penaltyII4CGAnalyticLineResult {
 	low := penaltyII4CGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyII4CGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                    // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend penaltyII4CGAnalyticRiseTrend // of the trials failing sufficient decrease
+	var trend penaltyII4CGAnalyticRiseTrend                         // of the trials failing sufficient decrease
+	limit := penaltyII4CGAnalyticStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < penaltyII4CGAnalyticStepTrials; trial++ {
 		if bracketed && penaltyII4CGAnalyticAbs(high.step-low.step) <= tiny {
@@ -669,12 +740,12 @@ func penaltyII4CGAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64, sl
 			if low.step == 0 {
 				return penaltyII4CGAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: penaltyII4CGAnalyticTinyOrExhausted(penaltyII4CGAnalyticFinite(high.value))}
 			}
-			return penaltyII4CGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return penaltyII4CGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return penaltyII4CGAnalyticLineResult{calls: calls, end: penaltyII4CGAnalyticSearchOutOfBudget}
 		}
-		penaltyII4CGAnalyticMoveTo(xt, x, t, d)
+		penaltyII4CGAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := penaltyII4CGAnalyticLinePoint{step: t, value: PenaltyII4(xt)}
 		calls++
 		previous := low
@@ -685,8 +756,7 @@ func penaltyII4CGAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64, sl
 			if calls+penaltyII4CGAnalyticDerivativeCost > budget {
 				return penaltyII4CGAnalyticLineResult{calls: calls, end: penaltyII4CGAnalyticSearchOutOfBudget}
 			}
-			penaltyII4CGAnalyticDerivative(xt, current.value, gt, diffs)
-			calls += penaltyII4CGAnalyticDerivativeCost
+			calls += penaltyII4CGAnalyticDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = penaltyII4CGAnalyticDot(gt, d), true
 			switch {
 			case !penaltyII4CGAnalyticFinite(current.slope):
@@ -697,18 +767,22 @@ func penaltyII4CGAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64, sl
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return penaltyII4CGAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: penaltyII4CGAnalyticSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = penaltyII4CGAnalyticZoomTrial(&low, &high)
-		} else {
-			t = penaltyII4CGAnalyticExpandTrial(&previous, &current)
+		} else if t = penaltyII4CGAnalyticExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return penaltyII4CGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return penaltyII4CGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return penaltyII4CGAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: penaltyII4CGAnalyticSearchExhausted}
 }
@@ -795,6 +869,11 @@ func penaltyII4CGAnalyticFaithfulStep(x, xt, d *[4]float64, t float64) bool {
 	return true
 }
 
+// penaltyII4CGAnalyticStepCap: without bounds a step may be as long as the search wants.
+func penaltyII4CGAnalyticStepCap(x, d *[4]float64, tiny float64, b *penaltyII4CGAnalyticBox) float64 {
+	return math.Inf(1)
+}
+
 // penaltyII4CGAnalyticTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -819,10 +898,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func penaltyII4CGAnalyticAcceptLow(x, d *[4]float64, low *penaltyII4CGAnalyticLinePoint, lowGradient *[4]float64, calls int, xt, gt *[4]float64) penaltyII4CGAnalyticLineResult {
-	penaltyII4CGAnalyticMoveTo(xt, x, low.step, d)
+func penaltyII4CGAnalyticAcceptLow(x, d *[4]float64, low *penaltyII4CGAnalyticLinePoint, lowGradient *[4]float64, calls int, xt, gt *[4]float64, diffs *penaltyII4CGAnalyticDifferences) penaltyII4CGAnalyticLineResult {
+	penaltyII4CGAnalyticTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return penaltyII4CGAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: penaltyII4CGAnalyticSearchAccepted}
+}
+
+// penaltyII4CGAnalyticTrialPoint is x + t·d.
+func penaltyII4CGAnalyticTrialPoint(out, x *[4]float64, t float64, d *[4]float64, b *penaltyII4CGAnalyticBox) {
+	penaltyII4CGAnalyticMoveTo(out, x, t, d)
 }
 
 // penaltyII4CGAnalyticMoveTo sets out = x + t·d.
@@ -877,21 +961,6 @@ func penaltyII4CGAnalyticModelMinimizer(a, b *penaltyII4CGAnalyticLinePoint) (t 
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, penaltyII4CGAnalyticFinite(t)
-}
-
-// penaltyII4CGAnalyticClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func penaltyII4CGAnalyticClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // penaltyII4CGAnalyticExpandTrial picks a larger trial after current met sufficient decrease

@@ -88,6 +88,9 @@ func PenaltyII4CGCentralDefaultLimits() PenaltyII4CGCentralLimits {
 	}
 }
 
+// penaltyII4CGCentralBox is empty: mgh.toml sets no bounds on PenaltyII4CGCentral.
+type penaltyII4CGCentralBox struct{}
+
 // PenaltyII4CGCentral minimizes PenaltyII4 from x0, as mgh.toml specifies.
 //
 // Direction cg: nonlinear conjugate gradients, Polak–Ribière clipped at zero (PR+), restarted every dim steps.
@@ -105,7 +108,7 @@ func PenaltyII4CGCentral(x0 [4]float64) PenaltyII4CGCentralResult {
 
 // PenaltyII4CGCentralWithLimits is PenaltyII4CGCentral with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func PenaltyII4CGCentralWithLimits(x0 [4]float64, limits PenaltyII4CGCentralLimits) PenaltyII4CGCentralResult {
-	out := penaltyII4CGCentralMinimize(x0, limits)
+	out := penaltyII4CGCentralMinimize(x0, limits, penaltyII4CGCentralBox{})
 	return PenaltyII4CGCentralResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func penaltyII4CGCentralMinimize(x0 [4]float64, lim PenaltyII4CGCentralLimits) penaltyII4CGCentralOutcome {
-	out := penaltyII4CGCentralOutcome{x: x0, status: PenaltyII4CGCentralOutOfEvaluations, gradient: math.NaN()}
+func penaltyII4CGCentralMinimize(x0 [4]float64, lim PenaltyII4CGCentralLimits, bounds penaltyII4CGCentralBox) penaltyII4CGCentralOutcome {
+	x := x0
+	penaltyII4CGCentralEnterBox(&x, &bounds)
+	out := penaltyII4CGCentralOutcome{x: x, status: PenaltyII4CGCentralOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := PenaltyII4(&x)
 	out.f, out.evaluations = fx, 1
 	if !penaltyII4CGCentralFinite(fx) || !penaltyII4CGCentralFiniteVec(&x) {
 		out.status = PenaltyII4CGCentralNonFiniteStart
 		return out
 	}
-	var diffs penaltyII4CGCentralDifferences
+	diffs := penaltyII4CGCentralDifferences{bounds: bounds}
 	calls, ok := penaltyII4CGCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+penaltyII4CGCentralDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [4]float64
-	penaltyII4CGCentralDerivative(&x, fx, &g, &diffs)
-	out.evaluations += penaltyII4CGCentralDerivativeCost
+	out.evaluations += penaltyII4CGCentralDerivative(&x, fx, &g, &diffs)
 
 	if !penaltyII4CGCentralFiniteVec(&g) {
 		out.status = PenaltyII4CGCentralNonFiniteGradient
@@ -211,7 +214,7 @@ func penaltyII4CGCentralMinimize(x0 [4]float64, lim PenaltyII4CGCentralLimits) p
 		case !confirmed:
 			penaltyII4CGCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := penaltyII4CGCentralGradientMeasure(&g, &e, &x, fx)
+		measure, floor := penaltyII4CGCentralStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, penaltyII4CGCentralLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func penaltyII4CGCentralMinimize(x0 [4]float64, lim PenaltyII4CGCentralLimits) p
 			if rises >= 8 {
 				return best.ending(PenaltyII4CGCentralDiverged, out.iterations, out.evaluations)
 			}
+			penaltyII4CGCentralCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(PenaltyII4CGCentralOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		penaltyII4CGCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := penaltyII4CGCentralDot(&g, &d)
 		if !(now < 0) || !penaltyII4CGCentralFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			penaltyII4CGCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = penaltyII4CGCentralDot(&g, &d)
 		}
 		first := float64(penaltyII4CGCentralStepInitial)
@@ -267,7 +271,7 @@ func penaltyII4CGCentralMinimize(x0 [4]float64, lim PenaltyII4CGCentralLimits) p
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := penaltyII4CGCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := penaltyII4CGCentralLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := penaltyII4CGCentralLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case penaltyII4CGCentralSearchOutOfBudget:
@@ -303,8 +307,7 @@ func penaltyII4CGCentralMinimize(x0 [4]float64, lim PenaltyII4CGCentralLimits) p
 				}
 				return best.ending(PenaltyII4CGCentralOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			penaltyII4CGCentralDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += penaltyII4CGCentralDerivativeCost
+			out.evaluations += penaltyII4CGCentralDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		penaltyII4CGCentralDifference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o penaltyII4CGCentralOutcome) ending(end PenaltyII4CGCentralStatus, iterat
 	return o
 }
 
+// penaltyII4CGCentralEnterBox: without bounds every start is inside.
+func penaltyII4CGCentralEnterBox(x *[4]float64, b *penaltyII4CGCentralBox) {}
+
 // penaltyII4CGCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func penaltyII4CGCentralFiniteVec(x *[4]float64) bool {
 	return true
 }
 
-// penaltyII4CGCentralDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// penaltyII4CGCentralDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type penaltyII4CGCentralDifferences struct {
 	ratio     [4]float64
 	curvature [4]float64
 	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see penaltyII4CGCentralRoundingFloor)
+	bounds    penaltyII4CGCentralBox
 }
 
 // penaltyII4CGCentralCalibrate chooses each central-difference interval from the
@@ -397,19 +405,45 @@ func penaltyII4CGCentralCalibrate(x *[4]float64, fx float64, diffs *penaltyII4CG
 	var slope [4]float64
 	scale := penaltyII4CGCentralAbs(fx)
 	quarter := penaltyII4CGCentralSquareRoot(penaltyII4CGCentralSquareRoot(penaltyII4CGCentralUnitRoundoff)) // u^(1/4)
+	calls := 0
 	for i := range probe {
-		if 4*(i+1) > budget {
-			return 4 * i, false
+		if calls+4 > budget {
+			return calls, false
 		}
 		xi := probe[i]
 		bar := quarter * penaltyII4CGCentralLarger(1, penaltyII4CGCentralAbs(xi))
+		lower, upper := penaltyII4CGCentralCoordinateRange(i, diffs)
+		if xi+2*bar > upper || xi-2*bar < lower {
+			// At a bound: three probes on the side with room, at h, 2h
+			// and 3h, for f‴ ≈ (f(3h) − 3f(2h) + 3f(h) − f(0))/h³ (the
+			// third forward difference).
+			h := penaltyII4CGCentralOneSide(xi, bar, 3, lower, upper)
+			if h == 0 {
+				continue // fixed by equal bounds
+			}
+			var f [3]float64
+			for k := range f {
+				probe[i], _ = penaltyII4CGCentralProbeStep(xi, float64(k+1)*h, lower, upper)
+				f[k] = PenaltyII4(&probe)
+				scale = penaltyII4CGCentralLarger(scale, penaltyII4CGCentralMagnitude(f[k]))
+			}
+			probe[i] = xi
+			calls += 3
+			if penaltyII4CGCentralFinite(f[0]) && penaltyII4CGCentralFinite(f[1]) && penaltyII4CGCentralFinite(f[2]) {
+				diffs.curvature[i] = penaltyII4CGCentralAbs(f[2]-3*f[1]+3*f[0]-fx) / penaltyII4CGCentralAbs(h*h*h)
+				diffs.second[i] = penaltyII4CGCentralAbs(fx-2*f[0]+f[1]) / (h * h)
+				slope[i] = (-3*fx + 4*f[0] - f[1]) / (2 * h)
+			}
+			continue
+		}
 		var f [4]float64
 		for k, m := range [4]float64{2, 1, -1, -2} {
-			probe[i], _ = penaltyII4CGCentralProbeStep(xi, m*bar)
+			probe[i], _ = penaltyII4CGCentralProbeStep(xi, m*bar, lower, upper)
 			f[k] = PenaltyII4(&probe)
 			scale = penaltyII4CGCentralLarger(scale, penaltyII4CGCentralMagnitude(f[k]))
 		}
 		probe[i] = xi
+		calls += 4
 		if penaltyII4CGCentralFinite(f[0]) && penaltyII4CGCentralFinite(f[1]) && penaltyII4CGCentralFinite(f[2]) && penaltyII4CGCentralFinite(f[3]) {
 			diffs.curvature[i] = penaltyII4CGCentralAbs(f[0]-2*f[1]+2*f[2]-f[3]) / (2 * bar * bar * bar)
 			diffs.second[i] = penaltyII4CGCentralAbs(f[1]-2*fx+f[2]) / (bar * bar)
@@ -428,7 +462,7 @@ func penaltyII4CGCentralCalibrate(x *[4]float64, fx float64, diffs *penaltyII4CG
 		diffs.ratio[i] = penaltyII4CGCentralClampBetween(h, 64*penaltyII4CGCentralUnitRoundoff*s, bar) / s
 		diffs.curvature[i] = third
 	}
-	return 4 * len(probe), true
+	return calls, true
 }
 
 // penaltyII4CGCentralAbs returns |v|.
@@ -454,10 +488,48 @@ func penaltyII4CGCentralLarger(a, b float64) float64 {
 	return b
 }
 
-// penaltyII4CGCentralProbeStep returns x_i moved by h, and the step actually representable.
-func penaltyII4CGCentralProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// penaltyII4CGCentralCoordinateRange: without bounds any probe is allowed.
+func penaltyII4CGCentralCoordinateRange(i int, diffs *penaltyII4CGCentralDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// penaltyII4CGCentralOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func penaltyII4CGCentralOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
+}
+
+// penaltyII4CGCentralProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func penaltyII4CGCentralProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := penaltyII4CGCentralClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// penaltyII4CGCentralClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func penaltyII4CGCentralClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
 }
 
 // penaltyII4CGCentralMagnitude is |v| for a finite v and 0 otherwise: a probe that fell
@@ -493,42 +565,85 @@ func penaltyII4CGCentralCubeRoot(v float64) float64 {
 	return math.Cbrt(v)
 }
 
-// penaltyII4CGCentralClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func penaltyII4CGCentralClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
-}
-
 // penaltyII4CGCentralDerivative approximates the gradient by central differences,
 //
 //	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),
 //
 // with the intervals penaltyII4CGCentralCalibrate chose, h_i = ratio_i·max(1, |x_i|)
-// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls; fx is
-// not needed.
-func penaltyII4CGCentralDerivative(x *[4]float64, fx float64, g *[4]float64, diffs *penaltyII4CGCentralDifferences) {
+// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls. Where
+// a bound leaves no room on one side, the three-point endpoint formula on
+// the other side takes its place at the same cost (see parabola); a
+// variable fixed by equal bounds costs nothing and gets 0.
+func penaltyII4CGCentralDerivative(x *[4]float64, fx float64, g *[4]float64, diffs *penaltyII4CGCentralDifferences) int {
 	probe := *x
+	calls := 0
 	for i := range probe {
 		xi := probe[i]
-		h := diffs.ratio[i] * penaltyII4CGCentralLarger(1, penaltyII4CGCentralAbs(xi))
-		up, _ := penaltyII4CGCentralProbeStep(xi, h)
-		down, _ := penaltyII4CGCentralProbeStep(xi, -h)
-		probe[i] = up
-		fUp := PenaltyII4(&probe)
-		probe[i] = down
-		fDown := PenaltyII4(&probe)
-		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
-		probe[i] = xi
+		h, oneSided := penaltyII4CGCentralCentralInterval(x, i, diffs)
+		lower, upper := penaltyII4CGCentralCoordinateRange(i, diffs)
+		switch {
+		case h == 0:
+			g[i] = 0 // fixed by equal bounds
+			continue
+		case oneSided:
+			g[i], _, _ = penaltyII4CGCentralSidedProbes(&probe, i, fx, h, lower, upper) // the three-point endpoint formula
+		default:
+			up, _ := penaltyII4CGCentralProbeStep(xi, h, lower, upper)
+			down, _ := penaltyII4CGCentralProbeStep(xi, -h, lower, upper)
+			probe[i] = up
+			fUp := PenaltyII4(&probe)
+			probe[i] = down
+			fDown := PenaltyII4(&probe)
+			g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+			probe[i] = xi
+		}
+		calls += 2
 	}
+	return calls
+}
+
+// penaltyII4CGCentralCentralInterval is the interval of coordinate i at x, ratio_i·max(1,
+// |x_i|), and whether the box leaves room for probes on both sides; when
+// it does not, the interval is signed towards the side with room for
+// probes at h and 2h, and shortened where the box is narrower than that
+// (see penaltyII4CGCentralOneSide).
+func penaltyII4CGCentralCentralInterval(x *[4]float64, i int, diffs *penaltyII4CGCentralDifferences) (h float64, oneSided bool) {
+	lower, upper := penaltyII4CGCentralCoordinateRange(i, diffs)
+	h = diffs.ratio[i] * penaltyII4CGCentralLarger(1, penaltyII4CGCentralAbs(x[i]))
+	if x[i]+h <= upper && x[i]-h >= lower {
+		return h, false
+	}
+	return penaltyII4CGCentralOneSide(x[i], h, 2, lower, upper), true
+}
+
+// penaltyII4CGCentralSidedProbes evaluates f at x moved along coordinate i by h and by 2h,
+// kept within [lower, upper], and returns the slope and second derivative
+// of the parabola through them and (x, fx) (see parabola), and the larger
+// magnitude of the two values.
+func penaltyII4CGCentralSidedProbes(probe *[4]float64, i int, fx, h, lower, upper float64) (slope, second, size float64) {
+	xi := probe[i]
+	near, a := penaltyII4CGCentralProbeStep(xi, h, lower, upper)
+	far, b := penaltyII4CGCentralProbeStep(xi, 2*h, lower, upper)
+	probe[i] = near
+	fNear := PenaltyII4(probe)
+	probe[i] = far
+	fFar := PenaltyII4(probe)
+	probe[i] = xi
+	slope, second = penaltyII4CGCentralParabola(fx, a, fNear, b, fFar)
+	return slope, second, penaltyII4CGCentralLarger(penaltyII4CGCentralMagnitude(fNear), penaltyII4CGCentralMagnitude(fFar))
+}
+
+// penaltyII4CGCentralParabola returns the first and second derivatives at 0 of the parabola
+// through (0, f0), (a, fa) and (b, fb), for probes on one side of a bound.
+// With b = 2a they are the three-point endpoint formulas
+// f′ ≈ (−3f0 + 4fa − fb)/(2a), error a²|f‴|/3, and
+// f″ ≈ (f0 − 2fa + fb)/a² (Burden & Faires, Numerical Analysis, §4.1
+// and §4.1's second-derivative formulas, from memory); written for unequal
+// a and b, so that the representable steps can be used.
+func penaltyII4CGCentralParabola(f0, a, fa, b, fb float64) (slope, second float64) {
+	slope = -(a+b)/(a*b)*f0 + b/(a*(b-a))*fa - a/(b*(b-a))*fb
+	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
+	return slope, second
 }
 
 // penaltyII4CGCentralDirection is nonlinear conjugate gradients with the Polak–Ribière
@@ -650,13 +765,13 @@ func penaltyII4CGCentralConfirmGradient(x *[4]float64, fx float64, g, e *[4]floa
 		wide.ratio[i] *= 2
 	}
 	var doubled [4]float64
-	penaltyII4CGCentralDerivative(x, fx, g, diffs)
-	penaltyII4CGCentralDerivative(x, fx, &doubled, &wide)
+	calls += penaltyII4CGCentralDerivative(x, fx, g, diffs)
+	calls += penaltyII4CGCentralDerivative(x, fx, &doubled, &wide)
 	penaltyII4CGCentralGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * penaltyII4CGCentralAbs(g[i]-doubled[i])
 	}
-	return calls + 2*penaltyII4CGCentralDerivativeCost, true
+	return calls, true
 }
 
 // penaltyII4CGCentralGradientError bounds each central difference's error by twice its
@@ -666,8 +781,16 @@ func penaltyII4CGCentralConfirmGradient(x *[4]float64, fx float64, g, e *[4]floa
 func penaltyII4CGCentralGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *penaltyII4CGCentralDifferences) {
 	noise := penaltyII4CGCentralNoiseLevel(x, fx, g)
 	for i := range e {
-		h := diffs.ratio[i] * penaltyII4CGCentralLarger(1, penaltyII4CGCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		h, oneSided := penaltyII4CGCentralCentralInterval(x, i, diffs)
+		h = penaltyII4CGCentralAbs(h)
+		switch {
+		case h == 0:
+			e[i] = 0 // fixed by equal bounds
+		case oneSided:
+			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+		default:
+			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		}
 	}
 }
 
@@ -689,6 +812,11 @@ func penaltyII4CGCentralRoundingFloor(x, g, e *[4]float64, diffs *penaltyII4CGCe
 // calibration, which penaltyII4CGCentralConfirmGradient has just made at x.
 func penaltyII4CGCentralDiagonalCurvature(x, g *[4]float64, diffs *penaltyII4CGCentralDifferences, h *[4]float64) {
 	*h = diffs.second
+}
+
+// penaltyII4CGCentralStationarity measures the gradient itself.
+func penaltyII4CGCentralStationarity(g, e, x *[4]float64, fx float64, b *penaltyII4CGCentralBox) (measure, floor float64) {
+	return penaltyII4CGCentralGradientMeasure(g, e, x, fx)
 }
 
 // penaltyII4CGCentralGradientMeasure is the scale-free measure
@@ -724,6 +852,14 @@ func penaltyII4CGCentralStepWithin(s, x *[4]float64, tol float64) bool {
 	return true
 }
 
+// penaltyII4CGCentralCurvaturePair: without bounds the pair is used as it is.
+func penaltyII4CGCentralCurvaturePair(s, y, x *[4]float64, b *penaltyII4CGCentralBox) {}
+
+// penaltyII4CGCentralSearchDirection is the direction's own.
+func penaltyII4CGCentralSearchDirection(dir *penaltyII4CGCentralDirection, x, g, d *[4]float64, b *penaltyII4CGCentralBox) {
+	dir.compute(g, d)
+}
+
 // penaltyII4CGCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func penaltyII4CGCentralTinyStep(x, d *[4]float64, tol float64) float64 {
@@ -751,7 +887,10 @@ func penaltyII4CGCentralTinyStep(x, d *[4]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (penaltyII4CGCentralStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -760,13 +899,17 @@ func penaltyII4CGCentralTinyStep(x, d *[4]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func penaltyII4CGCentralLineSearch(x *[4]float64, fx float64, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *penaltyII4CGCentralDifferences) penaltyII4CGCentralLineResult {
+func penaltyII4CGCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *penaltyII4CGCentralDifferences) penaltyII4CGCentralLineResult {
 	low := penaltyII4CGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyII4CGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                   // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend penaltyII4CGCentralRiseTrend // of the trials failing sufficient decrease
+	var trend penaltyII4CGCentralRiseTrend                         // of the trials failing sufficient decrease
+	limit := penaltyII4CGCentralStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < penaltyII4CGCentralStepTrials; trial++ {
 		if bracketed && penaltyII4CGCentralAbs(high.step-low.step) <= tiny {
@@ -776,12 +919,12 @@ func penaltyII4CGCentralLineSearch(x *[4]float64, fx float64, d *[4]float64, slo
 			if low.step == 0 {
 				return penaltyII4CGCentralLineResult{calls: calls, rising: trend.contradicts(), end: penaltyII4CGCentralTinyOrExhausted(penaltyII4CGCentralFinite(high.value))}
 			}
-			return penaltyII4CGCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return penaltyII4CGCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return penaltyII4CGCentralLineResult{calls: calls, end: penaltyII4CGCentralSearchOutOfBudget}
 		}
-		penaltyII4CGCentralMoveTo(xt, x, t, d)
+		penaltyII4CGCentralTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := penaltyII4CGCentralLinePoint{step: t, value: PenaltyII4(xt)}
 		calls++
 		previous := low
@@ -792,8 +935,7 @@ func penaltyII4CGCentralLineSearch(x *[4]float64, fx float64, d *[4]float64, slo
 			if calls+penaltyII4CGCentralDerivativeCost > budget {
 				return penaltyII4CGCentralLineResult{calls: calls, end: penaltyII4CGCentralSearchOutOfBudget}
 			}
-			penaltyII4CGCentralDerivative(xt, current.value, gt, diffs)
-			calls += penaltyII4CGCentralDerivativeCost
+			calls += penaltyII4CGCentralDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = penaltyII4CGCentralDot(gt, d), true
 			switch {
 			case !penaltyII4CGCentralFinite(current.slope):
@@ -804,18 +946,22 @@ func penaltyII4CGCentralLineSearch(x *[4]float64, fx float64, d *[4]float64, slo
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return penaltyII4CGCentralLineResult{step: t, value: current.value, calls: calls, gradient: true, end: penaltyII4CGCentralSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = penaltyII4CGCentralZoomTrial(&low, &high)
-		} else {
-			t = penaltyII4CGCentralExpandTrial(&previous, &current)
+		} else if t = penaltyII4CGCentralExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return penaltyII4CGCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return penaltyII4CGCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return penaltyII4CGCentralLineResult{calls: calls, rising: trend.contradicts(), end: penaltyII4CGCentralSearchExhausted}
 }
@@ -902,6 +1048,11 @@ func penaltyII4CGCentralFaithfulStep(x, xt, d *[4]float64, t float64) bool {
 	return true
 }
 
+// penaltyII4CGCentralStepCap: without bounds a step may be as long as the search wants.
+func penaltyII4CGCentralStepCap(x, d *[4]float64, tiny float64, b *penaltyII4CGCentralBox) float64 {
+	return math.Inf(1)
+}
+
 // penaltyII4CGCentralTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -926,10 +1077,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func penaltyII4CGCentralAcceptLow(x, d *[4]float64, low *penaltyII4CGCentralLinePoint, lowGradient *[4]float64, calls int, xt, gt *[4]float64) penaltyII4CGCentralLineResult {
-	penaltyII4CGCentralMoveTo(xt, x, low.step, d)
+func penaltyII4CGCentralAcceptLow(x, d *[4]float64, low *penaltyII4CGCentralLinePoint, lowGradient *[4]float64, calls int, xt, gt *[4]float64, diffs *penaltyII4CGCentralDifferences) penaltyII4CGCentralLineResult {
+	penaltyII4CGCentralTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return penaltyII4CGCentralLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: penaltyII4CGCentralSearchAccepted}
+}
+
+// penaltyII4CGCentralTrialPoint is x + t·d.
+func penaltyII4CGCentralTrialPoint(out, x *[4]float64, t float64, d *[4]float64, b *penaltyII4CGCentralBox) {
+	penaltyII4CGCentralMoveTo(out, x, t, d)
 }
 
 // penaltyII4CGCentralMoveTo sets out = x + t·d.

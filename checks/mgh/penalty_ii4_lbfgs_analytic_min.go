@@ -88,6 +88,9 @@ func PenaltyII4LBFGSAnalyticDefaultLimits() PenaltyII4LBFGSAnalyticLimits {
 	}
 }
 
+// penaltyII4LBFGSAnalyticBox is empty: mgh.toml sets no bounds on PenaltyII4LBFGSAnalytic.
+type penaltyII4LBFGSAnalyticBox struct{}
+
 // PenaltyII4LBFGSAnalytic minimizes PenaltyII4 from x0, as mgh.toml specifies.
 //
 // Direction lbfgs: limited-memory BFGS: the last `memory` pairs, two-loop recursion (2·memory·dim numbers).
@@ -105,7 +108,7 @@ func PenaltyII4LBFGSAnalytic(x0 [4]float64) PenaltyII4LBFGSAnalyticResult {
 
 // PenaltyII4LBFGSAnalyticWithLimits is PenaltyII4LBFGSAnalytic with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func PenaltyII4LBFGSAnalyticWithLimits(x0 [4]float64, limits PenaltyII4LBFGSAnalyticLimits) PenaltyII4LBFGSAnalyticResult {
-	out := penaltyII4LBFGSAnalyticMinimize(x0, limits)
+	out := penaltyII4LBFGSAnalyticMinimize(x0, limits, penaltyII4LBFGSAnalyticBox{})
 	return PenaltyII4LBFGSAnalyticResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -159,27 +162,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func penaltyII4LBFGSAnalyticMinimize(x0 [4]float64, lim PenaltyII4LBFGSAnalyticLimits) penaltyII4LBFGSAnalyticOutcome {
-	out := penaltyII4LBFGSAnalyticOutcome{x: x0, status: PenaltyII4LBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
+func penaltyII4LBFGSAnalyticMinimize(x0 [4]float64, lim PenaltyII4LBFGSAnalyticLimits, bounds penaltyII4LBFGSAnalyticBox) penaltyII4LBFGSAnalyticOutcome {
+	x := x0
+	penaltyII4LBFGSAnalyticEnterBox(&x, &bounds)
+	out := penaltyII4LBFGSAnalyticOutcome{x: x, status: PenaltyII4LBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := PenaltyII4(&x)
 	out.f, out.evaluations = fx, 1
 	if !penaltyII4LBFGSAnalyticFinite(fx) || !penaltyII4LBFGSAnalyticFiniteVec(&x) {
 		out.status = PenaltyII4LBFGSAnalyticNonFiniteStart
 		return out
 	}
-	var diffs penaltyII4LBFGSAnalyticDifferences
+	diffs := penaltyII4LBFGSAnalyticDifferences{bounds: bounds}
 	calls, ok := penaltyII4LBFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+penaltyII4LBFGSAnalyticDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [4]float64
-	penaltyII4LBFGSAnalyticDerivative(&x, fx, &g, &diffs)
-	out.evaluations += penaltyII4LBFGSAnalyticDerivativeCost
+	out.evaluations += penaltyII4LBFGSAnalyticDerivative(&x, fx, &g, &diffs)
 
 	if !penaltyII4LBFGSAnalyticFiniteVec(&g) {
 		out.status = PenaltyII4LBFGSAnalyticNonFiniteGradient
@@ -212,7 +215,7 @@ func penaltyII4LBFGSAnalyticMinimize(x0 [4]float64, lim PenaltyII4LBFGSAnalyticL
 		case !confirmed:
 			penaltyII4LBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := penaltyII4LBFGSAnalyticGradientMeasure(&g, &e, &x, fx)
+		measure, floor := penaltyII4LBFGSAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, penaltyII4LBFGSAnalyticLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -251,16 +254,17 @@ func penaltyII4LBFGSAnalyticMinimize(x0 [4]float64, lim PenaltyII4LBFGSAnalyticL
 			if rises >= 8 {
 				return best.ending(PenaltyII4LBFGSAnalyticDiverged, out.iterations, out.evaluations)
 			}
+			penaltyII4LBFGSAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(PenaltyII4LBFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		penaltyII4LBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := penaltyII4LBFGSAnalyticDot(&g, &d)
 		if !(now < 0) || !penaltyII4LBFGSAnalyticFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			penaltyII4LBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = penaltyII4LBFGSAnalyticDot(&g, &d)
 		}
 		first := float64(penaltyII4LBFGSAnalyticStepInitial)
@@ -268,7 +272,7 @@ func penaltyII4LBFGSAnalyticMinimize(x0 [4]float64, lim PenaltyII4LBFGSAnalyticL
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := penaltyII4LBFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := penaltyII4LBFGSAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := penaltyII4LBFGSAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case penaltyII4LBFGSAnalyticSearchOutOfBudget:
@@ -304,8 +308,7 @@ func penaltyII4LBFGSAnalyticMinimize(x0 [4]float64, lim PenaltyII4LBFGSAnalyticL
 				}
 				return best.ending(PenaltyII4LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			penaltyII4LBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += penaltyII4LBFGSAnalyticDerivativeCost
+			out.evaluations += penaltyII4LBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		penaltyII4LBFGSAnalyticDifference(&s, &xt, &x)
@@ -346,6 +349,9 @@ func (o penaltyII4LBFGSAnalyticOutcome) ending(end PenaltyII4LBFGSAnalyticStatus
 	return o
 }
 
+// penaltyII4LBFGSAnalyticEnterBox: without bounds every start is inside.
+func penaltyII4LBFGSAnalyticEnterBox(x *[4]float64, b *penaltyII4LBFGSAnalyticBox) {}
+
 // penaltyII4LBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -368,15 +374,17 @@ func penaltyII4LBFGSAnalyticFiniteVec(x *[4]float64) bool {
 	return true
 }
 
-// penaltyII4LBFGSAnalyticDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// penaltyII4LBFGSAnalyticDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type penaltyII4LBFGSAnalyticDifferences struct {
 	ratio     [4]float64
 	curvature [4]float64
 	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see penaltyII4LBFGSAnalyticRoundingFloor)
+	bounds    penaltyII4LBFGSAnalyticBox
 }
 
 // penaltyII4LBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
@@ -385,8 +393,9 @@ func penaltyII4LBFGSAnalyticCalibrate(x *[4]float64, fx float64, diffs *penaltyI
 }
 
 // penaltyII4LBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func penaltyII4LBFGSAnalyticDerivative(x *[4]float64, fx float64, g *[4]float64, diffs *penaltyII4LBFGSAnalyticDifferences) {
+func penaltyII4LBFGSAnalyticDerivative(x *[4]float64, fx float64, g *[4]float64, diffs *penaltyII4LBFGSAnalyticDifferences) int {
 	PenaltyII4Grad(x, g)
+	return 0
 }
 
 // penaltyII4LBFGSAnalyticDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
@@ -551,13 +560,13 @@ func penaltyII4LBFGSAnalyticConfirmGradient(x *[4]float64, fx float64, g, e *[4]
 		wide.ratio[i] *= 2
 	}
 	var doubled [4]float64
-	penaltyII4LBFGSAnalyticDerivative(x, fx, g, diffs)
-	penaltyII4LBFGSAnalyticDerivative(x, fx, &doubled, &wide)
+	calls += penaltyII4LBFGSAnalyticDerivative(x, fx, g, diffs)
+	calls += penaltyII4LBFGSAnalyticDerivative(x, fx, &doubled, &wide)
 	penaltyII4LBFGSAnalyticGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * penaltyII4LBFGSAnalyticAbs(g[i]-doubled[i])
 	}
-	return calls + 2*penaltyII4LBFGSAnalyticDerivativeCost, true
+	return calls, true
 }
 
 // penaltyII4LBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
@@ -599,18 +608,60 @@ func penaltyII4LBFGSAnalyticDiagonalCurvature(x, g *[4]float64, diffs *penaltyII
 	var moved [4]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := penaltyII4LBFGSAnalyticProbeStep(xi, penaltyII4LBFGSAnalyticSquareRoot(penaltyII4LBFGSAnalyticUnitRoundoff)*penaltyII4LBFGSAnalyticLarger(1, penaltyII4LBFGSAnalyticAbs(xi)))
-		probe[i] = up
-		PenaltyII4Grad(&probe, &moved)
-		h[i] = penaltyII4LBFGSAnalyticAbs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := penaltyII4LBFGSAnalyticCoordinateRange(i, diffs)
+		up, delta := penaltyII4LBFGSAnalyticProbeStep(xi, penaltyII4LBFGSAnalyticOneSide(xi, penaltyII4LBFGSAnalyticSquareRoot(penaltyII4LBFGSAnalyticUnitRoundoff)*penaltyII4LBFGSAnalyticLarger(1, penaltyII4LBFGSAnalyticAbs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			PenaltyII4Grad(&probe, &moved)
+			h[i] = penaltyII4LBFGSAnalyticAbs(moved[i]-g[i]) / penaltyII4LBFGSAnalyticAbs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// penaltyII4LBFGSAnalyticProbeStep returns x_i moved by h, and the step actually representable.
-func penaltyII4LBFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// penaltyII4LBFGSAnalyticCoordinateRange: without bounds any probe is allowed.
+func penaltyII4LBFGSAnalyticCoordinateRange(i int, diffs *penaltyII4LBFGSAnalyticDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// penaltyII4LBFGSAnalyticProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func penaltyII4LBFGSAnalyticProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := penaltyII4LBFGSAnalyticClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// penaltyII4LBFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func penaltyII4LBFGSAnalyticClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// penaltyII4LBFGSAnalyticOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func penaltyII4LBFGSAnalyticOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // penaltyII4LBFGSAnalyticSquareRoot returns √v.
@@ -626,6 +677,11 @@ func penaltyII4LBFGSAnalyticLarger(a, b float64) float64 {
 		return a
 	}
 	return b
+}
+
+// penaltyII4LBFGSAnalyticStationarity measures the gradient itself.
+func penaltyII4LBFGSAnalyticStationarity(g, e, x *[4]float64, fx float64, b *penaltyII4LBFGSAnalyticBox) (measure, floor float64) {
+	return penaltyII4LBFGSAnalyticGradientMeasure(g, e, x, fx)
 }
 
 // penaltyII4LBFGSAnalyticGradientMeasure is the scale-free measure
@@ -661,6 +717,14 @@ func penaltyII4LBFGSAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
 	return true
 }
 
+// penaltyII4LBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
+func penaltyII4LBFGSAnalyticCurvaturePair(s, y, x *[4]float64, b *penaltyII4LBFGSAnalyticBox) {}
+
+// penaltyII4LBFGSAnalyticSearchDirection is the direction's own.
+func penaltyII4LBFGSAnalyticSearchDirection(dir *penaltyII4LBFGSAnalyticDirection, x, g, d *[4]float64, b *penaltyII4LBFGSAnalyticBox) {
+	dir.compute(g, d)
+}
+
 // penaltyII4LBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func penaltyII4LBFGSAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
@@ -688,7 +752,10 @@ func penaltyII4LBFGSAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (penaltyII4LBFGSAnalyticStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -697,13 +764,17 @@ func penaltyII4LBFGSAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func penaltyII4LBFGSAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *penaltyII4LBFGSAnalyticDifferences) penaltyII4LBFGSAnalyticLineResult {
+func penaltyII4LBFGSAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *penaltyII4LBFGSAnalyticDifferences) penaltyII4LBFGSAnalyticLineResult {
 	low := penaltyII4LBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyII4LBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                       // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend penaltyII4LBFGSAnalyticRiseTrend // of the trials failing sufficient decrease
+	var trend penaltyII4LBFGSAnalyticRiseTrend                         // of the trials failing sufficient decrease
+	limit := penaltyII4LBFGSAnalyticStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < penaltyII4LBFGSAnalyticStepTrials; trial++ {
 		if bracketed && penaltyII4LBFGSAnalyticAbs(high.step-low.step) <= tiny {
@@ -713,12 +784,12 @@ func penaltyII4LBFGSAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64,
 			if low.step == 0 {
 				return penaltyII4LBFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: penaltyII4LBFGSAnalyticTinyOrExhausted(penaltyII4LBFGSAnalyticFinite(high.value))}
 			}
-			return penaltyII4LBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return penaltyII4LBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return penaltyII4LBFGSAnalyticLineResult{calls: calls, end: penaltyII4LBFGSAnalyticSearchOutOfBudget}
 		}
-		penaltyII4LBFGSAnalyticMoveTo(xt, x, t, d)
+		penaltyII4LBFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := penaltyII4LBFGSAnalyticLinePoint{step: t, value: PenaltyII4(xt)}
 		calls++
 		previous := low
@@ -729,8 +800,7 @@ func penaltyII4LBFGSAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64,
 			if calls+penaltyII4LBFGSAnalyticDerivativeCost > budget {
 				return penaltyII4LBFGSAnalyticLineResult{calls: calls, end: penaltyII4LBFGSAnalyticSearchOutOfBudget}
 			}
-			penaltyII4LBFGSAnalyticDerivative(xt, current.value, gt, diffs)
-			calls += penaltyII4LBFGSAnalyticDerivativeCost
+			calls += penaltyII4LBFGSAnalyticDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = penaltyII4LBFGSAnalyticDot(gt, d), true
 			switch {
 			case !penaltyII4LBFGSAnalyticFinite(current.slope):
@@ -741,18 +811,22 @@ func penaltyII4LBFGSAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64,
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return penaltyII4LBFGSAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: penaltyII4LBFGSAnalyticSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = penaltyII4LBFGSAnalyticZoomTrial(&low, &high)
-		} else {
-			t = penaltyII4LBFGSAnalyticExpandTrial(&previous, &current)
+		} else if t = penaltyII4LBFGSAnalyticExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return penaltyII4LBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return penaltyII4LBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return penaltyII4LBFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: penaltyII4LBFGSAnalyticSearchExhausted}
 }
@@ -839,6 +913,11 @@ func penaltyII4LBFGSAnalyticFaithfulStep(x, xt, d *[4]float64, t float64) bool {
 	return true
 }
 
+// penaltyII4LBFGSAnalyticStepCap: without bounds a step may be as long as the search wants.
+func penaltyII4LBFGSAnalyticStepCap(x, d *[4]float64, tiny float64, b *penaltyII4LBFGSAnalyticBox) float64 {
+	return math.Inf(1)
+}
+
 // penaltyII4LBFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -863,10 +942,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func penaltyII4LBFGSAnalyticAcceptLow(x, d *[4]float64, low *penaltyII4LBFGSAnalyticLinePoint, lowGradient *[4]float64, calls int, xt, gt *[4]float64) penaltyII4LBFGSAnalyticLineResult {
-	penaltyII4LBFGSAnalyticMoveTo(xt, x, low.step, d)
+func penaltyII4LBFGSAnalyticAcceptLow(x, d *[4]float64, low *penaltyII4LBFGSAnalyticLinePoint, lowGradient *[4]float64, calls int, xt, gt *[4]float64, diffs *penaltyII4LBFGSAnalyticDifferences) penaltyII4LBFGSAnalyticLineResult {
+	penaltyII4LBFGSAnalyticTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return penaltyII4LBFGSAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: penaltyII4LBFGSAnalyticSearchAccepted}
+}
+
+// penaltyII4LBFGSAnalyticTrialPoint is x + t·d.
+func penaltyII4LBFGSAnalyticTrialPoint(out, x *[4]float64, t float64, d *[4]float64, b *penaltyII4LBFGSAnalyticBox) {
+	penaltyII4LBFGSAnalyticMoveTo(out, x, t, d)
 }
 
 // penaltyII4LBFGSAnalyticMoveTo sets out = x + t·d.
@@ -921,21 +1005,6 @@ func penaltyII4LBFGSAnalyticModelMinimizer(a, b *penaltyII4LBFGSAnalyticLinePoin
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, penaltyII4LBFGSAnalyticFinite(t)
-}
-
-// penaltyII4LBFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func penaltyII4LBFGSAnalyticClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // penaltyII4LBFGSAnalyticExpandTrial picks a larger trial after current met sufficient decrease

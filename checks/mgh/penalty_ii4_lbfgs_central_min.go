@@ -88,6 +88,9 @@ func PenaltyII4LBFGSCentralDefaultLimits() PenaltyII4LBFGSCentralLimits {
 	}
 }
 
+// penaltyII4LBFGSCentralBox is empty: mgh.toml sets no bounds on PenaltyII4LBFGSCentral.
+type penaltyII4LBFGSCentralBox struct{}
+
 // PenaltyII4LBFGSCentral minimizes PenaltyII4 from x0, as mgh.toml specifies.
 //
 // Direction lbfgs: limited-memory BFGS: the last `memory` pairs, two-loop recursion (2·memory·dim numbers).
@@ -105,7 +108,7 @@ func PenaltyII4LBFGSCentral(x0 [4]float64) PenaltyII4LBFGSCentralResult {
 
 // PenaltyII4LBFGSCentralWithLimits is PenaltyII4LBFGSCentral with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func PenaltyII4LBFGSCentralWithLimits(x0 [4]float64, limits PenaltyII4LBFGSCentralLimits) PenaltyII4LBFGSCentralResult {
-	out := penaltyII4LBFGSCentralMinimize(x0, limits)
+	out := penaltyII4LBFGSCentralMinimize(x0, limits, penaltyII4LBFGSCentralBox{})
 	return PenaltyII4LBFGSCentralResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -159,27 +162,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func penaltyII4LBFGSCentralMinimize(x0 [4]float64, lim PenaltyII4LBFGSCentralLimits) penaltyII4LBFGSCentralOutcome {
-	out := penaltyII4LBFGSCentralOutcome{x: x0, status: PenaltyII4LBFGSCentralOutOfEvaluations, gradient: math.NaN()}
+func penaltyII4LBFGSCentralMinimize(x0 [4]float64, lim PenaltyII4LBFGSCentralLimits, bounds penaltyII4LBFGSCentralBox) penaltyII4LBFGSCentralOutcome {
+	x := x0
+	penaltyII4LBFGSCentralEnterBox(&x, &bounds)
+	out := penaltyII4LBFGSCentralOutcome{x: x, status: PenaltyII4LBFGSCentralOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := PenaltyII4(&x)
 	out.f, out.evaluations = fx, 1
 	if !penaltyII4LBFGSCentralFinite(fx) || !penaltyII4LBFGSCentralFiniteVec(&x) {
 		out.status = PenaltyII4LBFGSCentralNonFiniteStart
 		return out
 	}
-	var diffs penaltyII4LBFGSCentralDifferences
+	diffs := penaltyII4LBFGSCentralDifferences{bounds: bounds}
 	calls, ok := penaltyII4LBFGSCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+penaltyII4LBFGSCentralDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [4]float64
-	penaltyII4LBFGSCentralDerivative(&x, fx, &g, &diffs)
-	out.evaluations += penaltyII4LBFGSCentralDerivativeCost
+	out.evaluations += penaltyII4LBFGSCentralDerivative(&x, fx, &g, &diffs)
 
 	if !penaltyII4LBFGSCentralFiniteVec(&g) {
 		out.status = PenaltyII4LBFGSCentralNonFiniteGradient
@@ -212,7 +215,7 @@ func penaltyII4LBFGSCentralMinimize(x0 [4]float64, lim PenaltyII4LBFGSCentralLim
 		case !confirmed:
 			penaltyII4LBFGSCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := penaltyII4LBFGSCentralGradientMeasure(&g, &e, &x, fx)
+		measure, floor := penaltyII4LBFGSCentralStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, penaltyII4LBFGSCentralLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -251,16 +254,17 @@ func penaltyII4LBFGSCentralMinimize(x0 [4]float64, lim PenaltyII4LBFGSCentralLim
 			if rises >= 8 {
 				return best.ending(PenaltyII4LBFGSCentralDiverged, out.iterations, out.evaluations)
 			}
+			penaltyII4LBFGSCentralCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(PenaltyII4LBFGSCentralOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		penaltyII4LBFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := penaltyII4LBFGSCentralDot(&g, &d)
 		if !(now < 0) || !penaltyII4LBFGSCentralFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			penaltyII4LBFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = penaltyII4LBFGSCentralDot(&g, &d)
 		}
 		first := float64(penaltyII4LBFGSCentralStepInitial)
@@ -268,7 +272,7 @@ func penaltyII4LBFGSCentralMinimize(x0 [4]float64, lim PenaltyII4LBFGSCentralLim
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := penaltyII4LBFGSCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := penaltyII4LBFGSCentralLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := penaltyII4LBFGSCentralLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case penaltyII4LBFGSCentralSearchOutOfBudget:
@@ -304,8 +308,7 @@ func penaltyII4LBFGSCentralMinimize(x0 [4]float64, lim PenaltyII4LBFGSCentralLim
 				}
 				return best.ending(PenaltyII4LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			penaltyII4LBFGSCentralDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += penaltyII4LBFGSCentralDerivativeCost
+			out.evaluations += penaltyII4LBFGSCentralDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		penaltyII4LBFGSCentralDifference(&s, &xt, &x)
@@ -346,6 +349,9 @@ func (o penaltyII4LBFGSCentralOutcome) ending(end PenaltyII4LBFGSCentralStatus, 
 	return o
 }
 
+// penaltyII4LBFGSCentralEnterBox: without bounds every start is inside.
+func penaltyII4LBFGSCentralEnterBox(x *[4]float64, b *penaltyII4LBFGSCentralBox) {}
+
 // penaltyII4LBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -368,15 +374,17 @@ func penaltyII4LBFGSCentralFiniteVec(x *[4]float64) bool {
 	return true
 }
 
-// penaltyII4LBFGSCentralDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// penaltyII4LBFGSCentralDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type penaltyII4LBFGSCentralDifferences struct {
 	ratio     [4]float64
 	curvature [4]float64
 	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see penaltyII4LBFGSCentralRoundingFloor)
+	bounds    penaltyII4LBFGSCentralBox
 }
 
 // penaltyII4LBFGSCentralCalibrate chooses each central-difference interval from the
@@ -398,19 +406,45 @@ func penaltyII4LBFGSCentralCalibrate(x *[4]float64, fx float64, diffs *penaltyII
 	var slope [4]float64
 	scale := penaltyII4LBFGSCentralAbs(fx)
 	quarter := penaltyII4LBFGSCentralSquareRoot(penaltyII4LBFGSCentralSquareRoot(penaltyII4LBFGSCentralUnitRoundoff)) // u^(1/4)
+	calls := 0
 	for i := range probe {
-		if 4*(i+1) > budget {
-			return 4 * i, false
+		if calls+4 > budget {
+			return calls, false
 		}
 		xi := probe[i]
 		bar := quarter * penaltyII4LBFGSCentralLarger(1, penaltyII4LBFGSCentralAbs(xi))
+		lower, upper := penaltyII4LBFGSCentralCoordinateRange(i, diffs)
+		if xi+2*bar > upper || xi-2*bar < lower {
+			// At a bound: three probes on the side with room, at h, 2h
+			// and 3h, for f‴ ≈ (f(3h) − 3f(2h) + 3f(h) − f(0))/h³ (the
+			// third forward difference).
+			h := penaltyII4LBFGSCentralOneSide(xi, bar, 3, lower, upper)
+			if h == 0 {
+				continue // fixed by equal bounds
+			}
+			var f [3]float64
+			for k := range f {
+				probe[i], _ = penaltyII4LBFGSCentralProbeStep(xi, float64(k+1)*h, lower, upper)
+				f[k] = PenaltyII4(&probe)
+				scale = penaltyII4LBFGSCentralLarger(scale, penaltyII4LBFGSCentralMagnitude(f[k]))
+			}
+			probe[i] = xi
+			calls += 3
+			if penaltyII4LBFGSCentralFinite(f[0]) && penaltyII4LBFGSCentralFinite(f[1]) && penaltyII4LBFGSCentralFinite(f[2]) {
+				diffs.curvature[i] = penaltyII4LBFGSCentralAbs(f[2]-3*f[1]+3*f[0]-fx) / penaltyII4LBFGSCentralAbs(h*h*h)
+				diffs.second[i] = penaltyII4LBFGSCentralAbs(fx-2*f[0]+f[1]) / (h * h)
+				slope[i] = (-3*fx + 4*f[0] - f[1]) / (2 * h)
+			}
+			continue
+		}
 		var f [4]float64
 		for k, m := range [4]float64{2, 1, -1, -2} {
-			probe[i], _ = penaltyII4LBFGSCentralProbeStep(xi, m*bar)
+			probe[i], _ = penaltyII4LBFGSCentralProbeStep(xi, m*bar, lower, upper)
 			f[k] = PenaltyII4(&probe)
 			scale = penaltyII4LBFGSCentralLarger(scale, penaltyII4LBFGSCentralMagnitude(f[k]))
 		}
 		probe[i] = xi
+		calls += 4
 		if penaltyII4LBFGSCentralFinite(f[0]) && penaltyII4LBFGSCentralFinite(f[1]) && penaltyII4LBFGSCentralFinite(f[2]) && penaltyII4LBFGSCentralFinite(f[3]) {
 			diffs.curvature[i] = penaltyII4LBFGSCentralAbs(f[0]-2*f[1]+2*f[2]-f[3]) / (2 * bar * bar * bar)
 			diffs.second[i] = penaltyII4LBFGSCentralAbs(f[1]-2*fx+f[2]) / (bar * bar)
@@ -429,7 +463,7 @@ func penaltyII4LBFGSCentralCalibrate(x *[4]float64, fx float64, diffs *penaltyII
 		diffs.ratio[i] = penaltyII4LBFGSCentralClampBetween(h, 64*penaltyII4LBFGSCentralUnitRoundoff*s, bar) / s
 		diffs.curvature[i] = third
 	}
-	return 4 * len(probe), true
+	return calls, true
 }
 
 // penaltyII4LBFGSCentralAbs returns |v|.
@@ -455,10 +489,48 @@ func penaltyII4LBFGSCentralLarger(a, b float64) float64 {
 	return b
 }
 
-// penaltyII4LBFGSCentralProbeStep returns x_i moved by h, and the step actually representable.
-func penaltyII4LBFGSCentralProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// penaltyII4LBFGSCentralCoordinateRange: without bounds any probe is allowed.
+func penaltyII4LBFGSCentralCoordinateRange(i int, diffs *penaltyII4LBFGSCentralDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// penaltyII4LBFGSCentralOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func penaltyII4LBFGSCentralOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
+}
+
+// penaltyII4LBFGSCentralProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func penaltyII4LBFGSCentralProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := penaltyII4LBFGSCentralClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// penaltyII4LBFGSCentralClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func penaltyII4LBFGSCentralClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
 }
 
 // penaltyII4LBFGSCentralMagnitude is |v| for a finite v and 0 otherwise: a probe that fell
@@ -494,42 +566,85 @@ func penaltyII4LBFGSCentralCubeRoot(v float64) float64 {
 	return math.Cbrt(v)
 }
 
-// penaltyII4LBFGSCentralClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func penaltyII4LBFGSCentralClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
-}
-
 // penaltyII4LBFGSCentralDerivative approximates the gradient by central differences,
 //
 //	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),
 //
 // with the intervals penaltyII4LBFGSCentralCalibrate chose, h_i = ratio_i·max(1, |x_i|)
-// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls; fx is
-// not needed.
-func penaltyII4LBFGSCentralDerivative(x *[4]float64, fx float64, g *[4]float64, diffs *penaltyII4LBFGSCentralDifferences) {
+// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls. Where
+// a bound leaves no room on one side, the three-point endpoint formula on
+// the other side takes its place at the same cost (see parabola); a
+// variable fixed by equal bounds costs nothing and gets 0.
+func penaltyII4LBFGSCentralDerivative(x *[4]float64, fx float64, g *[4]float64, diffs *penaltyII4LBFGSCentralDifferences) int {
 	probe := *x
+	calls := 0
 	for i := range probe {
 		xi := probe[i]
-		h := diffs.ratio[i] * penaltyII4LBFGSCentralLarger(1, penaltyII4LBFGSCentralAbs(xi))
-		up, _ := penaltyII4LBFGSCentralProbeStep(xi, h)
-		down, _ := penaltyII4LBFGSCentralProbeStep(xi, -h)
-		probe[i] = up
-		fUp := PenaltyII4(&probe)
-		probe[i] = down
-		fDown := PenaltyII4(&probe)
-		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
-		probe[i] = xi
+		h, oneSided := penaltyII4LBFGSCentralCentralInterval(x, i, diffs)
+		lower, upper := penaltyII4LBFGSCentralCoordinateRange(i, diffs)
+		switch {
+		case h == 0:
+			g[i] = 0 // fixed by equal bounds
+			continue
+		case oneSided:
+			g[i], _, _ = penaltyII4LBFGSCentralSidedProbes(&probe, i, fx, h, lower, upper) // the three-point endpoint formula
+		default:
+			up, _ := penaltyII4LBFGSCentralProbeStep(xi, h, lower, upper)
+			down, _ := penaltyII4LBFGSCentralProbeStep(xi, -h, lower, upper)
+			probe[i] = up
+			fUp := PenaltyII4(&probe)
+			probe[i] = down
+			fDown := PenaltyII4(&probe)
+			g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+			probe[i] = xi
+		}
+		calls += 2
 	}
+	return calls
+}
+
+// penaltyII4LBFGSCentralCentralInterval is the interval of coordinate i at x, ratio_i·max(1,
+// |x_i|), and whether the box leaves room for probes on both sides; when
+// it does not, the interval is signed towards the side with room for
+// probes at h and 2h, and shortened where the box is narrower than that
+// (see penaltyII4LBFGSCentralOneSide).
+func penaltyII4LBFGSCentralCentralInterval(x *[4]float64, i int, diffs *penaltyII4LBFGSCentralDifferences) (h float64, oneSided bool) {
+	lower, upper := penaltyII4LBFGSCentralCoordinateRange(i, diffs)
+	h = diffs.ratio[i] * penaltyII4LBFGSCentralLarger(1, penaltyII4LBFGSCentralAbs(x[i]))
+	if x[i]+h <= upper && x[i]-h >= lower {
+		return h, false
+	}
+	return penaltyII4LBFGSCentralOneSide(x[i], h, 2, lower, upper), true
+}
+
+// penaltyII4LBFGSCentralSidedProbes evaluates f at x moved along coordinate i by h and by 2h,
+// kept within [lower, upper], and returns the slope and second derivative
+// of the parabola through them and (x, fx) (see parabola), and the larger
+// magnitude of the two values.
+func penaltyII4LBFGSCentralSidedProbes(probe *[4]float64, i int, fx, h, lower, upper float64) (slope, second, size float64) {
+	xi := probe[i]
+	near, a := penaltyII4LBFGSCentralProbeStep(xi, h, lower, upper)
+	far, b := penaltyII4LBFGSCentralProbeStep(xi, 2*h, lower, upper)
+	probe[i] = near
+	fNear := PenaltyII4(probe)
+	probe[i] = far
+	fFar := PenaltyII4(probe)
+	probe[i] = xi
+	slope, second = penaltyII4LBFGSCentralParabola(fx, a, fNear, b, fFar)
+	return slope, second, penaltyII4LBFGSCentralLarger(penaltyII4LBFGSCentralMagnitude(fNear), penaltyII4LBFGSCentralMagnitude(fFar))
+}
+
+// penaltyII4LBFGSCentralParabola returns the first and second derivatives at 0 of the parabola
+// through (0, f0), (a, fa) and (b, fb), for probes on one side of a bound.
+// With b = 2a they are the three-point endpoint formulas
+// f′ ≈ (−3f0 + 4fa − fb)/(2a), error a²|f‴|/3, and
+// f″ ≈ (f0 − 2fa + fb)/a² (Burden & Faires, Numerical Analysis, §4.1
+// and §4.1's second-derivative formulas, from memory); written for unequal
+// a and b, so that the representable steps can be used.
+func penaltyII4LBFGSCentralParabola(f0, a, fa, b, fb float64) (slope, second float64) {
+	slope = -(a+b)/(a*b)*f0 + b/(a*(b-a))*fa - a/(b*(b-a))*fb
+	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
+	return slope, second
 }
 
 // penaltyII4LBFGSCentralDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
@@ -694,13 +809,13 @@ func penaltyII4LBFGSCentralConfirmGradient(x *[4]float64, fx float64, g, e *[4]f
 		wide.ratio[i] *= 2
 	}
 	var doubled [4]float64
-	penaltyII4LBFGSCentralDerivative(x, fx, g, diffs)
-	penaltyII4LBFGSCentralDerivative(x, fx, &doubled, &wide)
+	calls += penaltyII4LBFGSCentralDerivative(x, fx, g, diffs)
+	calls += penaltyII4LBFGSCentralDerivative(x, fx, &doubled, &wide)
 	penaltyII4LBFGSCentralGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * penaltyII4LBFGSCentralAbs(g[i]-doubled[i])
 	}
-	return calls + 2*penaltyII4LBFGSCentralDerivativeCost, true
+	return calls, true
 }
 
 // penaltyII4LBFGSCentralGradientError bounds each central difference's error by twice its
@@ -710,8 +825,16 @@ func penaltyII4LBFGSCentralConfirmGradient(x *[4]float64, fx float64, g, e *[4]f
 func penaltyII4LBFGSCentralGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *penaltyII4LBFGSCentralDifferences) {
 	noise := penaltyII4LBFGSCentralNoiseLevel(x, fx, g)
 	for i := range e {
-		h := diffs.ratio[i] * penaltyII4LBFGSCentralLarger(1, penaltyII4LBFGSCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		h, oneSided := penaltyII4LBFGSCentralCentralInterval(x, i, diffs)
+		h = penaltyII4LBFGSCentralAbs(h)
+		switch {
+		case h == 0:
+			e[i] = 0 // fixed by equal bounds
+		case oneSided:
+			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+		default:
+			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		}
 	}
 }
 
@@ -733,6 +856,11 @@ func penaltyII4LBFGSCentralRoundingFloor(x, g, e *[4]float64, diffs *penaltyII4L
 // calibration, which penaltyII4LBFGSCentralConfirmGradient has just made at x.
 func penaltyII4LBFGSCentralDiagonalCurvature(x, g *[4]float64, diffs *penaltyII4LBFGSCentralDifferences, h *[4]float64) {
 	*h = diffs.second
+}
+
+// penaltyII4LBFGSCentralStationarity measures the gradient itself.
+func penaltyII4LBFGSCentralStationarity(g, e, x *[4]float64, fx float64, b *penaltyII4LBFGSCentralBox) (measure, floor float64) {
+	return penaltyII4LBFGSCentralGradientMeasure(g, e, x, fx)
 }
 
 // penaltyII4LBFGSCentralGradientMeasure is the scale-free measure
@@ -768,6 +896,14 @@ func penaltyII4LBFGSCentralStepWithin(s, x *[4]float64, tol float64) bool {
 	return true
 }
 
+// penaltyII4LBFGSCentralCurvaturePair: without bounds the pair is used as it is.
+func penaltyII4LBFGSCentralCurvaturePair(s, y, x *[4]float64, b *penaltyII4LBFGSCentralBox) {}
+
+// penaltyII4LBFGSCentralSearchDirection is the direction's own.
+func penaltyII4LBFGSCentralSearchDirection(dir *penaltyII4LBFGSCentralDirection, x, g, d *[4]float64, b *penaltyII4LBFGSCentralBox) {
+	dir.compute(g, d)
+}
+
 // penaltyII4LBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func penaltyII4LBFGSCentralTinyStep(x, d *[4]float64, tol float64) float64 {
@@ -795,7 +931,10 @@ func penaltyII4LBFGSCentralTinyStep(x, d *[4]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (penaltyII4LBFGSCentralStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -804,13 +943,17 @@ func penaltyII4LBFGSCentralTinyStep(x, d *[4]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func penaltyII4LBFGSCentralLineSearch(x *[4]float64, fx float64, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *penaltyII4LBFGSCentralDifferences) penaltyII4LBFGSCentralLineResult {
+func penaltyII4LBFGSCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *penaltyII4LBFGSCentralDifferences) penaltyII4LBFGSCentralLineResult {
 	low := penaltyII4LBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high penaltyII4LBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                      // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend penaltyII4LBFGSCentralRiseTrend // of the trials failing sufficient decrease
+	var trend penaltyII4LBFGSCentralRiseTrend                         // of the trials failing sufficient decrease
+	limit := penaltyII4LBFGSCentralStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < penaltyII4LBFGSCentralStepTrials; trial++ {
 		if bracketed && penaltyII4LBFGSCentralAbs(high.step-low.step) <= tiny {
@@ -820,12 +963,12 @@ func penaltyII4LBFGSCentralLineSearch(x *[4]float64, fx float64, d *[4]float64, 
 			if low.step == 0 {
 				return penaltyII4LBFGSCentralLineResult{calls: calls, rising: trend.contradicts(), end: penaltyII4LBFGSCentralTinyOrExhausted(penaltyII4LBFGSCentralFinite(high.value))}
 			}
-			return penaltyII4LBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return penaltyII4LBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return penaltyII4LBFGSCentralLineResult{calls: calls, end: penaltyII4LBFGSCentralSearchOutOfBudget}
 		}
-		penaltyII4LBFGSCentralMoveTo(xt, x, t, d)
+		penaltyII4LBFGSCentralTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := penaltyII4LBFGSCentralLinePoint{step: t, value: PenaltyII4(xt)}
 		calls++
 		previous := low
@@ -836,8 +979,7 @@ func penaltyII4LBFGSCentralLineSearch(x *[4]float64, fx float64, d *[4]float64, 
 			if calls+penaltyII4LBFGSCentralDerivativeCost > budget {
 				return penaltyII4LBFGSCentralLineResult{calls: calls, end: penaltyII4LBFGSCentralSearchOutOfBudget}
 			}
-			penaltyII4LBFGSCentralDerivative(xt, current.value, gt, diffs)
-			calls += penaltyII4LBFGSCentralDerivativeCost
+			calls += penaltyII4LBFGSCentralDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = penaltyII4LBFGSCentralDot(gt, d), true
 			switch {
 			case !penaltyII4LBFGSCentralFinite(current.slope):
@@ -848,18 +990,22 @@ func penaltyII4LBFGSCentralLineSearch(x *[4]float64, fx float64, d *[4]float64, 
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return penaltyII4LBFGSCentralLineResult{step: t, value: current.value, calls: calls, gradient: true, end: penaltyII4LBFGSCentralSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = penaltyII4LBFGSCentralZoomTrial(&low, &high)
-		} else {
-			t = penaltyII4LBFGSCentralExpandTrial(&previous, &current)
+		} else if t = penaltyII4LBFGSCentralExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return penaltyII4LBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return penaltyII4LBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return penaltyII4LBFGSCentralLineResult{calls: calls, rising: trend.contradicts(), end: penaltyII4LBFGSCentralSearchExhausted}
 }
@@ -946,6 +1092,11 @@ func penaltyII4LBFGSCentralFaithfulStep(x, xt, d *[4]float64, t float64) bool {
 	return true
 }
 
+// penaltyII4LBFGSCentralStepCap: without bounds a step may be as long as the search wants.
+func penaltyII4LBFGSCentralStepCap(x, d *[4]float64, tiny float64, b *penaltyII4LBFGSCentralBox) float64 {
+	return math.Inf(1)
+}
+
 // penaltyII4LBFGSCentralTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -970,10 +1121,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func penaltyII4LBFGSCentralAcceptLow(x, d *[4]float64, low *penaltyII4LBFGSCentralLinePoint, lowGradient *[4]float64, calls int, xt, gt *[4]float64) penaltyII4LBFGSCentralLineResult {
-	penaltyII4LBFGSCentralMoveTo(xt, x, low.step, d)
+func penaltyII4LBFGSCentralAcceptLow(x, d *[4]float64, low *penaltyII4LBFGSCentralLinePoint, lowGradient *[4]float64, calls int, xt, gt *[4]float64, diffs *penaltyII4LBFGSCentralDifferences) penaltyII4LBFGSCentralLineResult {
+	penaltyII4LBFGSCentralTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return penaltyII4LBFGSCentralLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: penaltyII4LBFGSCentralSearchAccepted}
+}
+
+// penaltyII4LBFGSCentralTrialPoint is x + t·d.
+func penaltyII4LBFGSCentralTrialPoint(out, x *[4]float64, t float64, d *[4]float64, b *penaltyII4LBFGSCentralBox) {
+	penaltyII4LBFGSCentralMoveTo(out, x, t, d)
 }
 
 // penaltyII4LBFGSCentralMoveTo sets out = x + t·d.

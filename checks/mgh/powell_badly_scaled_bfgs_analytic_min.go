@@ -88,6 +88,9 @@ func PowellBadlyScaledBFGSAnalyticDefaultLimits() PowellBadlyScaledBFGSAnalyticL
 	}
 }
 
+// powellBadlyScaledBFGSAnalyticBox is empty: mgh.toml sets no bounds on PowellBadlyScaledBFGSAnalytic.
+type powellBadlyScaledBFGSAnalyticBox struct{}
+
 // PowellBadlyScaledBFGSAnalytic minimizes PowellBadlyScaled from x0, as mgh.toml specifies.
 //
 // Direction bfgs: BFGS quasi-Newton with a dense inverse-Hessian approximation (dim² numbers).
@@ -105,7 +108,7 @@ func PowellBadlyScaledBFGSAnalytic(x0 [2]float64) PowellBadlyScaledBFGSAnalyticR
 
 // PowellBadlyScaledBFGSAnalyticWithLimits is PowellBadlyScaledBFGSAnalytic with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func PowellBadlyScaledBFGSAnalyticWithLimits(x0 [2]float64, limits PowellBadlyScaledBFGSAnalyticLimits) PowellBadlyScaledBFGSAnalyticResult {
-	out := powellBadlyScaledBFGSAnalyticMinimize(x0, limits)
+	out := powellBadlyScaledBFGSAnalyticMinimize(x0, limits, powellBadlyScaledBFGSAnalyticBox{})
 	return PowellBadlyScaledBFGSAnalyticResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func powellBadlyScaledBFGSAnalyticMinimize(x0 [2]float64, lim PowellBadlyScaledBFGSAnalyticLimits) powellBadlyScaledBFGSAnalyticOutcome {
-	out := powellBadlyScaledBFGSAnalyticOutcome{x: x0, status: PowellBadlyScaledBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
+func powellBadlyScaledBFGSAnalyticMinimize(x0 [2]float64, lim PowellBadlyScaledBFGSAnalyticLimits, bounds powellBadlyScaledBFGSAnalyticBox) powellBadlyScaledBFGSAnalyticOutcome {
+	x := x0
+	powellBadlyScaledBFGSAnalyticEnterBox(&x, &bounds)
+	out := powellBadlyScaledBFGSAnalyticOutcome{x: x, status: PowellBadlyScaledBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := PowellBadlyScaled(&x)
 	out.f, out.evaluations = fx, 1
 	if !powellBadlyScaledBFGSAnalyticFinite(fx) || !powellBadlyScaledBFGSAnalyticFiniteVec(&x) {
 		out.status = PowellBadlyScaledBFGSAnalyticNonFiniteStart
 		return out
 	}
-	var diffs powellBadlyScaledBFGSAnalyticDifferences
+	diffs := powellBadlyScaledBFGSAnalyticDifferences{bounds: bounds}
 	calls, ok := powellBadlyScaledBFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+powellBadlyScaledBFGSAnalyticDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [2]float64
-	powellBadlyScaledBFGSAnalyticDerivative(&x, fx, &g, &diffs)
-	out.evaluations += powellBadlyScaledBFGSAnalyticDerivativeCost
+	out.evaluations += powellBadlyScaledBFGSAnalyticDerivative(&x, fx, &g, &diffs)
 
 	if !powellBadlyScaledBFGSAnalyticFiniteVec(&g) {
 		out.status = PowellBadlyScaledBFGSAnalyticNonFiniteGradient
@@ -211,7 +214,7 @@ func powellBadlyScaledBFGSAnalyticMinimize(x0 [2]float64, lim PowellBadlyScaledB
 		case !confirmed:
 			powellBadlyScaledBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := powellBadlyScaledBFGSAnalyticGradientMeasure(&g, &e, &x, fx)
+		measure, floor := powellBadlyScaledBFGSAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, powellBadlyScaledBFGSAnalyticLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func powellBadlyScaledBFGSAnalyticMinimize(x0 [2]float64, lim PowellBadlyScaledB
 			if rises >= 8 {
 				return best.ending(PowellBadlyScaledBFGSAnalyticDiverged, out.iterations, out.evaluations)
 			}
+			powellBadlyScaledBFGSAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(PowellBadlyScaledBFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		powellBadlyScaledBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := powellBadlyScaledBFGSAnalyticDot(&g, &d)
 		if !(now < 0) || !powellBadlyScaledBFGSAnalyticFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			powellBadlyScaledBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = powellBadlyScaledBFGSAnalyticDot(&g, &d)
 		}
 		first := float64(powellBadlyScaledBFGSAnalyticStepInitial)
@@ -267,7 +271,7 @@ func powellBadlyScaledBFGSAnalyticMinimize(x0 [2]float64, lim PowellBadlyScaledB
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := powellBadlyScaledBFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := powellBadlyScaledBFGSAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := powellBadlyScaledBFGSAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case powellBadlyScaledBFGSAnalyticSearchOutOfBudget:
@@ -303,8 +307,7 @@ func powellBadlyScaledBFGSAnalyticMinimize(x0 [2]float64, lim PowellBadlyScaledB
 				}
 				return best.ending(PowellBadlyScaledBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			powellBadlyScaledBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += powellBadlyScaledBFGSAnalyticDerivativeCost
+			out.evaluations += powellBadlyScaledBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		powellBadlyScaledBFGSAnalyticDifference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o powellBadlyScaledBFGSAnalyticOutcome) ending(end PowellBadlyScaledBFGSAn
 	return o
 }
 
+// powellBadlyScaledBFGSAnalyticEnterBox: without bounds every start is inside.
+func powellBadlyScaledBFGSAnalyticEnterBox(x *[2]float64, b *powellBadlyScaledBFGSAnalyticBox) {}
+
 // powellBadlyScaledBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func powellBadlyScaledBFGSAnalyticFiniteVec(x *[2]float64) bool {
 	return true
 }
 
-// powellBadlyScaledBFGSAnalyticDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// powellBadlyScaledBFGSAnalyticDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type powellBadlyScaledBFGSAnalyticDifferences struct {
 	ratio     [2]float64
 	curvature [2]float64
 	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see powellBadlyScaledBFGSAnalyticRoundingFloor)
+	bounds    powellBadlyScaledBFGSAnalyticBox
 }
 
 // powellBadlyScaledBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
@@ -384,8 +392,9 @@ func powellBadlyScaledBFGSAnalyticCalibrate(x *[2]float64, fx float64, diffs *po
 }
 
 // powellBadlyScaledBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func powellBadlyScaledBFGSAnalyticDerivative(x *[2]float64, fx float64, g *[2]float64, diffs *powellBadlyScaledBFGSAnalyticDifferences) {
+func powellBadlyScaledBFGSAnalyticDerivative(x *[2]float64, fx float64, g *[2]float64, diffs *powellBadlyScaledBFGSAnalyticDifferences) int {
 	PowellBadlyScaledGrad(x, g)
+	return 0
 }
 
 // powellBadlyScaledBFGSAnalyticDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
@@ -525,13 +534,13 @@ func powellBadlyScaledBFGSAnalyticConfirmGradient(x *[2]float64, fx float64, g, 
 		wide.ratio[i] *= 2
 	}
 	var doubled [2]float64
-	powellBadlyScaledBFGSAnalyticDerivative(x, fx, g, diffs)
-	powellBadlyScaledBFGSAnalyticDerivative(x, fx, &doubled, &wide)
+	calls += powellBadlyScaledBFGSAnalyticDerivative(x, fx, g, diffs)
+	calls += powellBadlyScaledBFGSAnalyticDerivative(x, fx, &doubled, &wide)
 	powellBadlyScaledBFGSAnalyticGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * powellBadlyScaledBFGSAnalyticAbs(g[i]-doubled[i])
 	}
-	return calls + 2*powellBadlyScaledBFGSAnalyticDerivativeCost, true
+	return calls, true
 }
 
 // powellBadlyScaledBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
@@ -573,18 +582,60 @@ func powellBadlyScaledBFGSAnalyticDiagonalCurvature(x, g *[2]float64, diffs *pow
 	var moved [2]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := powellBadlyScaledBFGSAnalyticProbeStep(xi, powellBadlyScaledBFGSAnalyticSquareRoot(powellBadlyScaledBFGSAnalyticUnitRoundoff)*powellBadlyScaledBFGSAnalyticLarger(1, powellBadlyScaledBFGSAnalyticAbs(xi)))
-		probe[i] = up
-		PowellBadlyScaledGrad(&probe, &moved)
-		h[i] = powellBadlyScaledBFGSAnalyticAbs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := powellBadlyScaledBFGSAnalyticCoordinateRange(i, diffs)
+		up, delta := powellBadlyScaledBFGSAnalyticProbeStep(xi, powellBadlyScaledBFGSAnalyticOneSide(xi, powellBadlyScaledBFGSAnalyticSquareRoot(powellBadlyScaledBFGSAnalyticUnitRoundoff)*powellBadlyScaledBFGSAnalyticLarger(1, powellBadlyScaledBFGSAnalyticAbs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			PowellBadlyScaledGrad(&probe, &moved)
+			h[i] = powellBadlyScaledBFGSAnalyticAbs(moved[i]-g[i]) / powellBadlyScaledBFGSAnalyticAbs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// powellBadlyScaledBFGSAnalyticProbeStep returns x_i moved by h, and the step actually representable.
-func powellBadlyScaledBFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// powellBadlyScaledBFGSAnalyticCoordinateRange: without bounds any probe is allowed.
+func powellBadlyScaledBFGSAnalyticCoordinateRange(i int, diffs *powellBadlyScaledBFGSAnalyticDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// powellBadlyScaledBFGSAnalyticProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func powellBadlyScaledBFGSAnalyticProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := powellBadlyScaledBFGSAnalyticClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// powellBadlyScaledBFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func powellBadlyScaledBFGSAnalyticClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// powellBadlyScaledBFGSAnalyticOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func powellBadlyScaledBFGSAnalyticOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // powellBadlyScaledBFGSAnalyticSquareRoot returns √v.
@@ -600,6 +651,11 @@ func powellBadlyScaledBFGSAnalyticLarger(a, b float64) float64 {
 		return a
 	}
 	return b
+}
+
+// powellBadlyScaledBFGSAnalyticStationarity measures the gradient itself.
+func powellBadlyScaledBFGSAnalyticStationarity(g, e, x *[2]float64, fx float64, b *powellBadlyScaledBFGSAnalyticBox) (measure, floor float64) {
+	return powellBadlyScaledBFGSAnalyticGradientMeasure(g, e, x, fx)
 }
 
 // powellBadlyScaledBFGSAnalyticGradientMeasure is the scale-free measure
@@ -635,6 +691,15 @@ func powellBadlyScaledBFGSAnalyticStepWithin(s, x *[2]float64, tol float64) bool
 	return true
 }
 
+// powellBadlyScaledBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
+func powellBadlyScaledBFGSAnalyticCurvaturePair(s, y, x *[2]float64, b *powellBadlyScaledBFGSAnalyticBox) {
+}
+
+// powellBadlyScaledBFGSAnalyticSearchDirection is the direction's own.
+func powellBadlyScaledBFGSAnalyticSearchDirection(dir *powellBadlyScaledBFGSAnalyticDirection, x, g, d *[2]float64, b *powellBadlyScaledBFGSAnalyticBox) {
+	dir.compute(g, d)
+}
+
 // powellBadlyScaledBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func powellBadlyScaledBFGSAnalyticTinyStep(x, d *[2]float64, tol float64) float64 {
@@ -662,7 +727,10 @@ func powellBadlyScaledBFGSAnalyticTinyStep(x, d *[2]float64, tol float64) float6
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (powellBadlyScaledBFGSAnalyticStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -671,13 +739,17 @@ func powellBadlyScaledBFGSAnalyticTinyStep(x, d *[2]float64, tol float64) float6
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func powellBadlyScaledBFGSAnalyticLineSearch(x *[2]float64, fx float64, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *powellBadlyScaledBFGSAnalyticDifferences) powellBadlyScaledBFGSAnalyticLineResult {
+func powellBadlyScaledBFGSAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *powellBadlyScaledBFGSAnalyticDifferences) powellBadlyScaledBFGSAnalyticLineResult {
 	low := powellBadlyScaledBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high powellBadlyScaledBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                             // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend powellBadlyScaledBFGSAnalyticRiseTrend // of the trials failing sufficient decrease
+	var trend powellBadlyScaledBFGSAnalyticRiseTrend                         // of the trials failing sufficient decrease
+	limit := powellBadlyScaledBFGSAnalyticStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < powellBadlyScaledBFGSAnalyticStepTrials; trial++ {
 		if bracketed && powellBadlyScaledBFGSAnalyticAbs(high.step-low.step) <= tiny {
@@ -687,12 +759,12 @@ func powellBadlyScaledBFGSAnalyticLineSearch(x *[2]float64, fx float64, d *[2]fl
 			if low.step == 0 {
 				return powellBadlyScaledBFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: powellBadlyScaledBFGSAnalyticTinyOrExhausted(powellBadlyScaledBFGSAnalyticFinite(high.value))}
 			}
-			return powellBadlyScaledBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return powellBadlyScaledBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return powellBadlyScaledBFGSAnalyticLineResult{calls: calls, end: powellBadlyScaledBFGSAnalyticSearchOutOfBudget}
 		}
-		powellBadlyScaledBFGSAnalyticMoveTo(xt, x, t, d)
+		powellBadlyScaledBFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := powellBadlyScaledBFGSAnalyticLinePoint{step: t, value: PowellBadlyScaled(xt)}
 		calls++
 		previous := low
@@ -703,8 +775,7 @@ func powellBadlyScaledBFGSAnalyticLineSearch(x *[2]float64, fx float64, d *[2]fl
 			if calls+powellBadlyScaledBFGSAnalyticDerivativeCost > budget {
 				return powellBadlyScaledBFGSAnalyticLineResult{calls: calls, end: powellBadlyScaledBFGSAnalyticSearchOutOfBudget}
 			}
-			powellBadlyScaledBFGSAnalyticDerivative(xt, current.value, gt, diffs)
-			calls += powellBadlyScaledBFGSAnalyticDerivativeCost
+			calls += powellBadlyScaledBFGSAnalyticDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = powellBadlyScaledBFGSAnalyticDot(gt, d), true
 			switch {
 			case !powellBadlyScaledBFGSAnalyticFinite(current.slope):
@@ -715,18 +786,22 @@ func powellBadlyScaledBFGSAnalyticLineSearch(x *[2]float64, fx float64, d *[2]fl
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return powellBadlyScaledBFGSAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: powellBadlyScaledBFGSAnalyticSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = powellBadlyScaledBFGSAnalyticZoomTrial(&low, &high)
-		} else {
-			t = powellBadlyScaledBFGSAnalyticExpandTrial(&previous, &current)
+		} else if t = powellBadlyScaledBFGSAnalyticExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return powellBadlyScaledBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return powellBadlyScaledBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return powellBadlyScaledBFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: powellBadlyScaledBFGSAnalyticSearchExhausted}
 }
@@ -813,6 +888,11 @@ func powellBadlyScaledBFGSAnalyticFaithfulStep(x, xt, d *[2]float64, t float64) 
 	return true
 }
 
+// powellBadlyScaledBFGSAnalyticStepCap: without bounds a step may be as long as the search wants.
+func powellBadlyScaledBFGSAnalyticStepCap(x, d *[2]float64, tiny float64, b *powellBadlyScaledBFGSAnalyticBox) float64 {
+	return math.Inf(1)
+}
+
 // powellBadlyScaledBFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -837,10 +917,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func powellBadlyScaledBFGSAnalyticAcceptLow(x, d *[2]float64, low *powellBadlyScaledBFGSAnalyticLinePoint, lowGradient *[2]float64, calls int, xt, gt *[2]float64) powellBadlyScaledBFGSAnalyticLineResult {
-	powellBadlyScaledBFGSAnalyticMoveTo(xt, x, low.step, d)
+func powellBadlyScaledBFGSAnalyticAcceptLow(x, d *[2]float64, low *powellBadlyScaledBFGSAnalyticLinePoint, lowGradient *[2]float64, calls int, xt, gt *[2]float64, diffs *powellBadlyScaledBFGSAnalyticDifferences) powellBadlyScaledBFGSAnalyticLineResult {
+	powellBadlyScaledBFGSAnalyticTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return powellBadlyScaledBFGSAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: powellBadlyScaledBFGSAnalyticSearchAccepted}
+}
+
+// powellBadlyScaledBFGSAnalyticTrialPoint is x + t·d.
+func powellBadlyScaledBFGSAnalyticTrialPoint(out, x *[2]float64, t float64, d *[2]float64, b *powellBadlyScaledBFGSAnalyticBox) {
+	powellBadlyScaledBFGSAnalyticMoveTo(out, x, t, d)
 }
 
 // powellBadlyScaledBFGSAnalyticMoveTo sets out = x + t·d.
@@ -895,21 +980,6 @@ func powellBadlyScaledBFGSAnalyticModelMinimizer(a, b *powellBadlyScaledBFGSAnal
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, powellBadlyScaledBFGSAnalyticFinite(t)
-}
-
-// powellBadlyScaledBFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func powellBadlyScaledBFGSAnalyticClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // powellBadlyScaledBFGSAnalyticExpandTrial picks a larger trial after current met sufficient decrease

@@ -88,6 +88,9 @@ func PowellBadlyScaledBFGSCentralDefaultLimits() PowellBadlyScaledBFGSCentralLim
 	}
 }
 
+// powellBadlyScaledBFGSCentralBox is empty: mgh.toml sets no bounds on PowellBadlyScaledBFGSCentral.
+type powellBadlyScaledBFGSCentralBox struct{}
+
 // PowellBadlyScaledBFGSCentral minimizes PowellBadlyScaled from x0, as mgh.toml specifies.
 //
 // Direction bfgs: BFGS quasi-Newton with a dense inverse-Hessian approximation (dim² numbers).
@@ -105,7 +108,7 @@ func PowellBadlyScaledBFGSCentral(x0 [2]float64) PowellBadlyScaledBFGSCentralRes
 
 // PowellBadlyScaledBFGSCentralWithLimits is PowellBadlyScaledBFGSCentral with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func PowellBadlyScaledBFGSCentralWithLimits(x0 [2]float64, limits PowellBadlyScaledBFGSCentralLimits) PowellBadlyScaledBFGSCentralResult {
-	out := powellBadlyScaledBFGSCentralMinimize(x0, limits)
+	out := powellBadlyScaledBFGSCentralMinimize(x0, limits, powellBadlyScaledBFGSCentralBox{})
 	return PowellBadlyScaledBFGSCentralResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func powellBadlyScaledBFGSCentralMinimize(x0 [2]float64, lim PowellBadlyScaledBFGSCentralLimits) powellBadlyScaledBFGSCentralOutcome {
-	out := powellBadlyScaledBFGSCentralOutcome{x: x0, status: PowellBadlyScaledBFGSCentralOutOfEvaluations, gradient: math.NaN()}
+func powellBadlyScaledBFGSCentralMinimize(x0 [2]float64, lim PowellBadlyScaledBFGSCentralLimits, bounds powellBadlyScaledBFGSCentralBox) powellBadlyScaledBFGSCentralOutcome {
+	x := x0
+	powellBadlyScaledBFGSCentralEnterBox(&x, &bounds)
+	out := powellBadlyScaledBFGSCentralOutcome{x: x, status: PowellBadlyScaledBFGSCentralOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := PowellBadlyScaled(&x)
 	out.f, out.evaluations = fx, 1
 	if !powellBadlyScaledBFGSCentralFinite(fx) || !powellBadlyScaledBFGSCentralFiniteVec(&x) {
 		out.status = PowellBadlyScaledBFGSCentralNonFiniteStart
 		return out
 	}
-	var diffs powellBadlyScaledBFGSCentralDifferences
+	diffs := powellBadlyScaledBFGSCentralDifferences{bounds: bounds}
 	calls, ok := powellBadlyScaledBFGSCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+powellBadlyScaledBFGSCentralDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [2]float64
-	powellBadlyScaledBFGSCentralDerivative(&x, fx, &g, &diffs)
-	out.evaluations += powellBadlyScaledBFGSCentralDerivativeCost
+	out.evaluations += powellBadlyScaledBFGSCentralDerivative(&x, fx, &g, &diffs)
 
 	if !powellBadlyScaledBFGSCentralFiniteVec(&g) {
 		out.status = PowellBadlyScaledBFGSCentralNonFiniteGradient
@@ -211,7 +214,7 @@ func powellBadlyScaledBFGSCentralMinimize(x0 [2]float64, lim PowellBadlyScaledBF
 		case !confirmed:
 			powellBadlyScaledBFGSCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := powellBadlyScaledBFGSCentralGradientMeasure(&g, &e, &x, fx)
+		measure, floor := powellBadlyScaledBFGSCentralStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, powellBadlyScaledBFGSCentralLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func powellBadlyScaledBFGSCentralMinimize(x0 [2]float64, lim PowellBadlyScaledBF
 			if rises >= 8 {
 				return best.ending(PowellBadlyScaledBFGSCentralDiverged, out.iterations, out.evaluations)
 			}
+			powellBadlyScaledBFGSCentralCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(PowellBadlyScaledBFGSCentralOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		powellBadlyScaledBFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := powellBadlyScaledBFGSCentralDot(&g, &d)
 		if !(now < 0) || !powellBadlyScaledBFGSCentralFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			powellBadlyScaledBFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = powellBadlyScaledBFGSCentralDot(&g, &d)
 		}
 		first := float64(powellBadlyScaledBFGSCentralStepInitial)
@@ -267,7 +271,7 @@ func powellBadlyScaledBFGSCentralMinimize(x0 [2]float64, lim PowellBadlyScaledBF
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := powellBadlyScaledBFGSCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := powellBadlyScaledBFGSCentralLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := powellBadlyScaledBFGSCentralLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case powellBadlyScaledBFGSCentralSearchOutOfBudget:
@@ -303,8 +307,7 @@ func powellBadlyScaledBFGSCentralMinimize(x0 [2]float64, lim PowellBadlyScaledBF
 				}
 				return best.ending(PowellBadlyScaledBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			powellBadlyScaledBFGSCentralDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += powellBadlyScaledBFGSCentralDerivativeCost
+			out.evaluations += powellBadlyScaledBFGSCentralDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		powellBadlyScaledBFGSCentralDifference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o powellBadlyScaledBFGSCentralOutcome) ending(end PowellBadlyScaledBFGSCen
 	return o
 }
 
+// powellBadlyScaledBFGSCentralEnterBox: without bounds every start is inside.
+func powellBadlyScaledBFGSCentralEnterBox(x *[2]float64, b *powellBadlyScaledBFGSCentralBox) {}
+
 // powellBadlyScaledBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func powellBadlyScaledBFGSCentralFiniteVec(x *[2]float64) bool {
 	return true
 }
 
-// powellBadlyScaledBFGSCentralDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// powellBadlyScaledBFGSCentralDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type powellBadlyScaledBFGSCentralDifferences struct {
 	ratio     [2]float64
 	curvature [2]float64
 	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see powellBadlyScaledBFGSCentralRoundingFloor)
+	bounds    powellBadlyScaledBFGSCentralBox
 }
 
 // powellBadlyScaledBFGSCentralCalibrate chooses each central-difference interval from the
@@ -397,19 +405,45 @@ func powellBadlyScaledBFGSCentralCalibrate(x *[2]float64, fx float64, diffs *pow
 	var slope [2]float64
 	scale := powellBadlyScaledBFGSCentralAbs(fx)
 	quarter := powellBadlyScaledBFGSCentralSquareRoot(powellBadlyScaledBFGSCentralSquareRoot(powellBadlyScaledBFGSCentralUnitRoundoff)) // u^(1/4)
+	calls := 0
 	for i := range probe {
-		if 4*(i+1) > budget {
-			return 4 * i, false
+		if calls+4 > budget {
+			return calls, false
 		}
 		xi := probe[i]
 		bar := quarter * powellBadlyScaledBFGSCentralLarger(1, powellBadlyScaledBFGSCentralAbs(xi))
+		lower, upper := powellBadlyScaledBFGSCentralCoordinateRange(i, diffs)
+		if xi+2*bar > upper || xi-2*bar < lower {
+			// At a bound: three probes on the side with room, at h, 2h
+			// and 3h, for f‴ ≈ (f(3h) − 3f(2h) + 3f(h) − f(0))/h³ (the
+			// third forward difference).
+			h := powellBadlyScaledBFGSCentralOneSide(xi, bar, 3, lower, upper)
+			if h == 0 {
+				continue // fixed by equal bounds
+			}
+			var f [3]float64
+			for k := range f {
+				probe[i], _ = powellBadlyScaledBFGSCentralProbeStep(xi, float64(k+1)*h, lower, upper)
+				f[k] = PowellBadlyScaled(&probe)
+				scale = powellBadlyScaledBFGSCentralLarger(scale, powellBadlyScaledBFGSCentralMagnitude(f[k]))
+			}
+			probe[i] = xi
+			calls += 3
+			if powellBadlyScaledBFGSCentralFinite(f[0]) && powellBadlyScaledBFGSCentralFinite(f[1]) && powellBadlyScaledBFGSCentralFinite(f[2]) {
+				diffs.curvature[i] = powellBadlyScaledBFGSCentralAbs(f[2]-3*f[1]+3*f[0]-fx) / powellBadlyScaledBFGSCentralAbs(h*h*h)
+				diffs.second[i] = powellBadlyScaledBFGSCentralAbs(fx-2*f[0]+f[1]) / (h * h)
+				slope[i] = (-3*fx + 4*f[0] - f[1]) / (2 * h)
+			}
+			continue
+		}
 		var f [4]float64
 		for k, m := range [4]float64{2, 1, -1, -2} {
-			probe[i], _ = powellBadlyScaledBFGSCentralProbeStep(xi, m*bar)
+			probe[i], _ = powellBadlyScaledBFGSCentralProbeStep(xi, m*bar, lower, upper)
 			f[k] = PowellBadlyScaled(&probe)
 			scale = powellBadlyScaledBFGSCentralLarger(scale, powellBadlyScaledBFGSCentralMagnitude(f[k]))
 		}
 		probe[i] = xi
+		calls += 4
 		if powellBadlyScaledBFGSCentralFinite(f[0]) && powellBadlyScaledBFGSCentralFinite(f[1]) && powellBadlyScaledBFGSCentralFinite(f[2]) && powellBadlyScaledBFGSCentralFinite(f[3]) {
 			diffs.curvature[i] = powellBadlyScaledBFGSCentralAbs(f[0]-2*f[1]+2*f[2]-f[3]) / (2 * bar * bar * bar)
 			diffs.second[i] = powellBadlyScaledBFGSCentralAbs(f[1]-2*fx+f[2]) / (bar * bar)
@@ -428,7 +462,7 @@ func powellBadlyScaledBFGSCentralCalibrate(x *[2]float64, fx float64, diffs *pow
 		diffs.ratio[i] = powellBadlyScaledBFGSCentralClampBetween(h, 64*powellBadlyScaledBFGSCentralUnitRoundoff*s, bar) / s
 		diffs.curvature[i] = third
 	}
-	return 4 * len(probe), true
+	return calls, true
 }
 
 // powellBadlyScaledBFGSCentralAbs returns |v|.
@@ -454,10 +488,48 @@ func powellBadlyScaledBFGSCentralLarger(a, b float64) float64 {
 	return b
 }
 
-// powellBadlyScaledBFGSCentralProbeStep returns x_i moved by h, and the step actually representable.
-func powellBadlyScaledBFGSCentralProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// powellBadlyScaledBFGSCentralCoordinateRange: without bounds any probe is allowed.
+func powellBadlyScaledBFGSCentralCoordinateRange(i int, diffs *powellBadlyScaledBFGSCentralDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// powellBadlyScaledBFGSCentralOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func powellBadlyScaledBFGSCentralOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
+}
+
+// powellBadlyScaledBFGSCentralProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func powellBadlyScaledBFGSCentralProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := powellBadlyScaledBFGSCentralClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// powellBadlyScaledBFGSCentralClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func powellBadlyScaledBFGSCentralClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
 }
 
 // powellBadlyScaledBFGSCentralMagnitude is |v| for a finite v and 0 otherwise: a probe that fell
@@ -493,42 +565,85 @@ func powellBadlyScaledBFGSCentralCubeRoot(v float64) float64 {
 	return math.Cbrt(v)
 }
 
-// powellBadlyScaledBFGSCentralClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func powellBadlyScaledBFGSCentralClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
-}
-
 // powellBadlyScaledBFGSCentralDerivative approximates the gradient by central differences,
 //
 //	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),
 //
 // with the intervals powellBadlyScaledBFGSCentralCalibrate chose, h_i = ratio_i·max(1, |x_i|)
-// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls; fx is
-// not needed.
-func powellBadlyScaledBFGSCentralDerivative(x *[2]float64, fx float64, g *[2]float64, diffs *powellBadlyScaledBFGSCentralDifferences) {
+// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls. Where
+// a bound leaves no room on one side, the three-point endpoint formula on
+// the other side takes its place at the same cost (see parabola); a
+// variable fixed by equal bounds costs nothing and gets 0.
+func powellBadlyScaledBFGSCentralDerivative(x *[2]float64, fx float64, g *[2]float64, diffs *powellBadlyScaledBFGSCentralDifferences) int {
 	probe := *x
+	calls := 0
 	for i := range probe {
 		xi := probe[i]
-		h := diffs.ratio[i] * powellBadlyScaledBFGSCentralLarger(1, powellBadlyScaledBFGSCentralAbs(xi))
-		up, _ := powellBadlyScaledBFGSCentralProbeStep(xi, h)
-		down, _ := powellBadlyScaledBFGSCentralProbeStep(xi, -h)
-		probe[i] = up
-		fUp := PowellBadlyScaled(&probe)
-		probe[i] = down
-		fDown := PowellBadlyScaled(&probe)
-		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
-		probe[i] = xi
+		h, oneSided := powellBadlyScaledBFGSCentralCentralInterval(x, i, diffs)
+		lower, upper := powellBadlyScaledBFGSCentralCoordinateRange(i, diffs)
+		switch {
+		case h == 0:
+			g[i] = 0 // fixed by equal bounds
+			continue
+		case oneSided:
+			g[i], _, _ = powellBadlyScaledBFGSCentralSidedProbes(&probe, i, fx, h, lower, upper) // the three-point endpoint formula
+		default:
+			up, _ := powellBadlyScaledBFGSCentralProbeStep(xi, h, lower, upper)
+			down, _ := powellBadlyScaledBFGSCentralProbeStep(xi, -h, lower, upper)
+			probe[i] = up
+			fUp := PowellBadlyScaled(&probe)
+			probe[i] = down
+			fDown := PowellBadlyScaled(&probe)
+			g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+			probe[i] = xi
+		}
+		calls += 2
 	}
+	return calls
+}
+
+// powellBadlyScaledBFGSCentralCentralInterval is the interval of coordinate i at x, ratio_i·max(1,
+// |x_i|), and whether the box leaves room for probes on both sides; when
+// it does not, the interval is signed towards the side with room for
+// probes at h and 2h, and shortened where the box is narrower than that
+// (see powellBadlyScaledBFGSCentralOneSide).
+func powellBadlyScaledBFGSCentralCentralInterval(x *[2]float64, i int, diffs *powellBadlyScaledBFGSCentralDifferences) (h float64, oneSided bool) {
+	lower, upper := powellBadlyScaledBFGSCentralCoordinateRange(i, diffs)
+	h = diffs.ratio[i] * powellBadlyScaledBFGSCentralLarger(1, powellBadlyScaledBFGSCentralAbs(x[i]))
+	if x[i]+h <= upper && x[i]-h >= lower {
+		return h, false
+	}
+	return powellBadlyScaledBFGSCentralOneSide(x[i], h, 2, lower, upper), true
+}
+
+// powellBadlyScaledBFGSCentralSidedProbes evaluates f at x moved along coordinate i by h and by 2h,
+// kept within [lower, upper], and returns the slope and second derivative
+// of the parabola through them and (x, fx) (see parabola), and the larger
+// magnitude of the two values.
+func powellBadlyScaledBFGSCentralSidedProbes(probe *[2]float64, i int, fx, h, lower, upper float64) (slope, second, size float64) {
+	xi := probe[i]
+	near, a := powellBadlyScaledBFGSCentralProbeStep(xi, h, lower, upper)
+	far, b := powellBadlyScaledBFGSCentralProbeStep(xi, 2*h, lower, upper)
+	probe[i] = near
+	fNear := PowellBadlyScaled(probe)
+	probe[i] = far
+	fFar := PowellBadlyScaled(probe)
+	probe[i] = xi
+	slope, second = powellBadlyScaledBFGSCentralParabola(fx, a, fNear, b, fFar)
+	return slope, second, powellBadlyScaledBFGSCentralLarger(powellBadlyScaledBFGSCentralMagnitude(fNear), powellBadlyScaledBFGSCentralMagnitude(fFar))
+}
+
+// powellBadlyScaledBFGSCentralParabola returns the first and second derivatives at 0 of the parabola
+// through (0, f0), (a, fa) and (b, fb), for probes on one side of a bound.
+// With b = 2a they are the three-point endpoint formulas
+// f′ ≈ (−3f0 + 4fa − fb)/(2a), error a²|f‴|/3, and
+// f″ ≈ (f0 − 2fa + fb)/a² (Burden & Faires, Numerical Analysis, §4.1
+// and §4.1's second-derivative formulas, from memory); written for unequal
+// a and b, so that the representable steps can be used.
+func powellBadlyScaledBFGSCentralParabola(f0, a, fa, b, fb float64) (slope, second float64) {
+	slope = -(a+b)/(a*b)*f0 + b/(a*(b-a))*fa - a/(b*(b-a))*fb
+	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
+	return slope, second
 }
 
 // powellBadlyScaledBFGSCentralDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
@@ -668,13 +783,13 @@ func powellBadlyScaledBFGSCentralConfirmGradient(x *[2]float64, fx float64, g, e
 		wide.ratio[i] *= 2
 	}
 	var doubled [2]float64
-	powellBadlyScaledBFGSCentralDerivative(x, fx, g, diffs)
-	powellBadlyScaledBFGSCentralDerivative(x, fx, &doubled, &wide)
+	calls += powellBadlyScaledBFGSCentralDerivative(x, fx, g, diffs)
+	calls += powellBadlyScaledBFGSCentralDerivative(x, fx, &doubled, &wide)
 	powellBadlyScaledBFGSCentralGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * powellBadlyScaledBFGSCentralAbs(g[i]-doubled[i])
 	}
-	return calls + 2*powellBadlyScaledBFGSCentralDerivativeCost, true
+	return calls, true
 }
 
 // powellBadlyScaledBFGSCentralGradientError bounds each central difference's error by twice its
@@ -684,8 +799,16 @@ func powellBadlyScaledBFGSCentralConfirmGradient(x *[2]float64, fx float64, g, e
 func powellBadlyScaledBFGSCentralGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *powellBadlyScaledBFGSCentralDifferences) {
 	noise := powellBadlyScaledBFGSCentralNoiseLevel(x, fx, g)
 	for i := range e {
-		h := diffs.ratio[i] * powellBadlyScaledBFGSCentralLarger(1, powellBadlyScaledBFGSCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		h, oneSided := powellBadlyScaledBFGSCentralCentralInterval(x, i, diffs)
+		h = powellBadlyScaledBFGSCentralAbs(h)
+		switch {
+		case h == 0:
+			e[i] = 0 // fixed by equal bounds
+		case oneSided:
+			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+		default:
+			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		}
 	}
 }
 
@@ -707,6 +830,11 @@ func powellBadlyScaledBFGSCentralRoundingFloor(x, g, e *[2]float64, diffs *powel
 // calibration, which powellBadlyScaledBFGSCentralConfirmGradient has just made at x.
 func powellBadlyScaledBFGSCentralDiagonalCurvature(x, g *[2]float64, diffs *powellBadlyScaledBFGSCentralDifferences, h *[2]float64) {
 	*h = diffs.second
+}
+
+// powellBadlyScaledBFGSCentralStationarity measures the gradient itself.
+func powellBadlyScaledBFGSCentralStationarity(g, e, x *[2]float64, fx float64, b *powellBadlyScaledBFGSCentralBox) (measure, floor float64) {
+	return powellBadlyScaledBFGSCentralGradientMeasure(g, e, x, fx)
 }
 
 // powellBadlyScaledBFGSCentralGradientMeasure is the scale-free measure
@@ -742,6 +870,15 @@ func powellBadlyScaledBFGSCentralStepWithin(s, x *[2]float64, tol float64) bool 
 	return true
 }
 
+// powellBadlyScaledBFGSCentralCurvaturePair: without bounds the pair is used as it is.
+func powellBadlyScaledBFGSCentralCurvaturePair(s, y, x *[2]float64, b *powellBadlyScaledBFGSCentralBox) {
+}
+
+// powellBadlyScaledBFGSCentralSearchDirection is the direction's own.
+func powellBadlyScaledBFGSCentralSearchDirection(dir *powellBadlyScaledBFGSCentralDirection, x, g, d *[2]float64, b *powellBadlyScaledBFGSCentralBox) {
+	dir.compute(g, d)
+}
+
 // powellBadlyScaledBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func powellBadlyScaledBFGSCentralTinyStep(x, d *[2]float64, tol float64) float64 {
@@ -769,7 +906,10 @@ func powellBadlyScaledBFGSCentralTinyStep(x, d *[2]float64, tol float64) float64
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (powellBadlyScaledBFGSCentralStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -778,13 +918,17 @@ func powellBadlyScaledBFGSCentralTinyStep(x, d *[2]float64, tol float64) float64
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func powellBadlyScaledBFGSCentralLineSearch(x *[2]float64, fx float64, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *powellBadlyScaledBFGSCentralDifferences) powellBadlyScaledBFGSCentralLineResult {
+func powellBadlyScaledBFGSCentralLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *powellBadlyScaledBFGSCentralDifferences) powellBadlyScaledBFGSCentralLineResult {
 	low := powellBadlyScaledBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high powellBadlyScaledBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                            // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend powellBadlyScaledBFGSCentralRiseTrend // of the trials failing sufficient decrease
+	var trend powellBadlyScaledBFGSCentralRiseTrend                         // of the trials failing sufficient decrease
+	limit := powellBadlyScaledBFGSCentralStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < powellBadlyScaledBFGSCentralStepTrials; trial++ {
 		if bracketed && powellBadlyScaledBFGSCentralAbs(high.step-low.step) <= tiny {
@@ -794,12 +938,12 @@ func powellBadlyScaledBFGSCentralLineSearch(x *[2]float64, fx float64, d *[2]flo
 			if low.step == 0 {
 				return powellBadlyScaledBFGSCentralLineResult{calls: calls, rising: trend.contradicts(), end: powellBadlyScaledBFGSCentralTinyOrExhausted(powellBadlyScaledBFGSCentralFinite(high.value))}
 			}
-			return powellBadlyScaledBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return powellBadlyScaledBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return powellBadlyScaledBFGSCentralLineResult{calls: calls, end: powellBadlyScaledBFGSCentralSearchOutOfBudget}
 		}
-		powellBadlyScaledBFGSCentralMoveTo(xt, x, t, d)
+		powellBadlyScaledBFGSCentralTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := powellBadlyScaledBFGSCentralLinePoint{step: t, value: PowellBadlyScaled(xt)}
 		calls++
 		previous := low
@@ -810,8 +954,7 @@ func powellBadlyScaledBFGSCentralLineSearch(x *[2]float64, fx float64, d *[2]flo
 			if calls+powellBadlyScaledBFGSCentralDerivativeCost > budget {
 				return powellBadlyScaledBFGSCentralLineResult{calls: calls, end: powellBadlyScaledBFGSCentralSearchOutOfBudget}
 			}
-			powellBadlyScaledBFGSCentralDerivative(xt, current.value, gt, diffs)
-			calls += powellBadlyScaledBFGSCentralDerivativeCost
+			calls += powellBadlyScaledBFGSCentralDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = powellBadlyScaledBFGSCentralDot(gt, d), true
 			switch {
 			case !powellBadlyScaledBFGSCentralFinite(current.slope):
@@ -822,18 +965,22 @@ func powellBadlyScaledBFGSCentralLineSearch(x *[2]float64, fx float64, d *[2]flo
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return powellBadlyScaledBFGSCentralLineResult{step: t, value: current.value, calls: calls, gradient: true, end: powellBadlyScaledBFGSCentralSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = powellBadlyScaledBFGSCentralZoomTrial(&low, &high)
-		} else {
-			t = powellBadlyScaledBFGSCentralExpandTrial(&previous, &current)
+		} else if t = powellBadlyScaledBFGSCentralExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return powellBadlyScaledBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return powellBadlyScaledBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return powellBadlyScaledBFGSCentralLineResult{calls: calls, rising: trend.contradicts(), end: powellBadlyScaledBFGSCentralSearchExhausted}
 }
@@ -920,6 +1067,11 @@ func powellBadlyScaledBFGSCentralFaithfulStep(x, xt, d *[2]float64, t float64) b
 	return true
 }
 
+// powellBadlyScaledBFGSCentralStepCap: without bounds a step may be as long as the search wants.
+func powellBadlyScaledBFGSCentralStepCap(x, d *[2]float64, tiny float64, b *powellBadlyScaledBFGSCentralBox) float64 {
+	return math.Inf(1)
+}
+
 // powellBadlyScaledBFGSCentralTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -944,10 +1096,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func powellBadlyScaledBFGSCentralAcceptLow(x, d *[2]float64, low *powellBadlyScaledBFGSCentralLinePoint, lowGradient *[2]float64, calls int, xt, gt *[2]float64) powellBadlyScaledBFGSCentralLineResult {
-	powellBadlyScaledBFGSCentralMoveTo(xt, x, low.step, d)
+func powellBadlyScaledBFGSCentralAcceptLow(x, d *[2]float64, low *powellBadlyScaledBFGSCentralLinePoint, lowGradient *[2]float64, calls int, xt, gt *[2]float64, diffs *powellBadlyScaledBFGSCentralDifferences) powellBadlyScaledBFGSCentralLineResult {
+	powellBadlyScaledBFGSCentralTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return powellBadlyScaledBFGSCentralLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: powellBadlyScaledBFGSCentralSearchAccepted}
+}
+
+// powellBadlyScaledBFGSCentralTrialPoint is x + t·d.
+func powellBadlyScaledBFGSCentralTrialPoint(out, x *[2]float64, t float64, d *[2]float64, b *powellBadlyScaledBFGSCentralBox) {
+	powellBadlyScaledBFGSCentralMoveTo(out, x, t, d)
 }
 
 // powellBadlyScaledBFGSCentralMoveTo sets out = x + t·d.

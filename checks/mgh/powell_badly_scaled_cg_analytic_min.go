@@ -88,6 +88,9 @@ func PowellBadlyScaledCGAnalyticDefaultLimits() PowellBadlyScaledCGAnalyticLimit
 	}
 }
 
+// powellBadlyScaledCGAnalyticBox is empty: mgh.toml sets no bounds on PowellBadlyScaledCGAnalytic.
+type powellBadlyScaledCGAnalyticBox struct{}
+
 // PowellBadlyScaledCGAnalytic minimizes PowellBadlyScaled from x0, as mgh.toml specifies.
 //
 // Direction cg: nonlinear conjugate gradients, Polak–Ribière clipped at zero (PR+), restarted every dim steps.
@@ -105,7 +108,7 @@ func PowellBadlyScaledCGAnalytic(x0 [2]float64) PowellBadlyScaledCGAnalyticResul
 
 // PowellBadlyScaledCGAnalyticWithLimits is PowellBadlyScaledCGAnalytic with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func PowellBadlyScaledCGAnalyticWithLimits(x0 [2]float64, limits PowellBadlyScaledCGAnalyticLimits) PowellBadlyScaledCGAnalyticResult {
-	out := powellBadlyScaledCGAnalyticMinimize(x0, limits)
+	out := powellBadlyScaledCGAnalyticMinimize(x0, limits, powellBadlyScaledCGAnalyticBox{})
 	return PowellBadlyScaledCGAnalyticResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func powellBadlyScaledCGAnalyticMinimize(x0 [2]float64, lim PowellBadlyScaledCGAnalyticLimits) powellBadlyScaledCGAnalyticOutcome {
-	out := powellBadlyScaledCGAnalyticOutcome{x: x0, status: PowellBadlyScaledCGAnalyticOutOfEvaluations, gradient: math.NaN()}
+func powellBadlyScaledCGAnalyticMinimize(x0 [2]float64, lim PowellBadlyScaledCGAnalyticLimits, bounds powellBadlyScaledCGAnalyticBox) powellBadlyScaledCGAnalyticOutcome {
+	x := x0
+	powellBadlyScaledCGAnalyticEnterBox(&x, &bounds)
+	out := powellBadlyScaledCGAnalyticOutcome{x: x, status: PowellBadlyScaledCGAnalyticOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := PowellBadlyScaled(&x)
 	out.f, out.evaluations = fx, 1
 	if !powellBadlyScaledCGAnalyticFinite(fx) || !powellBadlyScaledCGAnalyticFiniteVec(&x) {
 		out.status = PowellBadlyScaledCGAnalyticNonFiniteStart
 		return out
 	}
-	var diffs powellBadlyScaledCGAnalyticDifferences
+	diffs := powellBadlyScaledCGAnalyticDifferences{bounds: bounds}
 	calls, ok := powellBadlyScaledCGAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+powellBadlyScaledCGAnalyticDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [2]float64
-	powellBadlyScaledCGAnalyticDerivative(&x, fx, &g, &diffs)
-	out.evaluations += powellBadlyScaledCGAnalyticDerivativeCost
+	out.evaluations += powellBadlyScaledCGAnalyticDerivative(&x, fx, &g, &diffs)
 
 	if !powellBadlyScaledCGAnalyticFiniteVec(&g) {
 		out.status = PowellBadlyScaledCGAnalyticNonFiniteGradient
@@ -211,7 +214,7 @@ func powellBadlyScaledCGAnalyticMinimize(x0 [2]float64, lim PowellBadlyScaledCGA
 		case !confirmed:
 			powellBadlyScaledCGAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := powellBadlyScaledCGAnalyticGradientMeasure(&g, &e, &x, fx)
+		measure, floor := powellBadlyScaledCGAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, powellBadlyScaledCGAnalyticLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func powellBadlyScaledCGAnalyticMinimize(x0 [2]float64, lim PowellBadlyScaledCGA
 			if rises >= 8 {
 				return best.ending(PowellBadlyScaledCGAnalyticDiverged, out.iterations, out.evaluations)
 			}
+			powellBadlyScaledCGAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(PowellBadlyScaledCGAnalyticOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		powellBadlyScaledCGAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := powellBadlyScaledCGAnalyticDot(&g, &d)
 		if !(now < 0) || !powellBadlyScaledCGAnalyticFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			powellBadlyScaledCGAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = powellBadlyScaledCGAnalyticDot(&g, &d)
 		}
 		first := float64(powellBadlyScaledCGAnalyticStepInitial)
@@ -267,7 +271,7 @@ func powellBadlyScaledCGAnalyticMinimize(x0 [2]float64, lim PowellBadlyScaledCGA
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := powellBadlyScaledCGAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := powellBadlyScaledCGAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := powellBadlyScaledCGAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case powellBadlyScaledCGAnalyticSearchOutOfBudget:
@@ -303,8 +307,7 @@ func powellBadlyScaledCGAnalyticMinimize(x0 [2]float64, lim PowellBadlyScaledCGA
 				}
 				return best.ending(PowellBadlyScaledCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			powellBadlyScaledCGAnalyticDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += powellBadlyScaledCGAnalyticDerivativeCost
+			out.evaluations += powellBadlyScaledCGAnalyticDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		powellBadlyScaledCGAnalyticDifference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o powellBadlyScaledCGAnalyticOutcome) ending(end PowellBadlyScaledCGAnalyt
 	return o
 }
 
+// powellBadlyScaledCGAnalyticEnterBox: without bounds every start is inside.
+func powellBadlyScaledCGAnalyticEnterBox(x *[2]float64, b *powellBadlyScaledCGAnalyticBox) {}
+
 // powellBadlyScaledCGAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func powellBadlyScaledCGAnalyticFiniteVec(x *[2]float64) bool {
 	return true
 }
 
-// powellBadlyScaledCGAnalyticDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// powellBadlyScaledCGAnalyticDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type powellBadlyScaledCGAnalyticDifferences struct {
 	ratio     [2]float64
 	curvature [2]float64
 	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see powellBadlyScaledCGAnalyticRoundingFloor)
+	bounds    powellBadlyScaledCGAnalyticBox
 }
 
 // powellBadlyScaledCGAnalyticCalibrate: an analytic gradient needs no intervals.
@@ -384,8 +392,9 @@ func powellBadlyScaledCGAnalyticCalibrate(x *[2]float64, fx float64, diffs *powe
 }
 
 // powellBadlyScaledCGAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func powellBadlyScaledCGAnalyticDerivative(x *[2]float64, fx float64, g *[2]float64, diffs *powellBadlyScaledCGAnalyticDifferences) {
+func powellBadlyScaledCGAnalyticDerivative(x *[2]float64, fx float64, g *[2]float64, diffs *powellBadlyScaledCGAnalyticDifferences) int {
 	PowellBadlyScaledGrad(x, g)
+	return 0
 }
 
 // powellBadlyScaledCGAnalyticDirection is nonlinear conjugate gradients with the Polak–Ribière
@@ -517,13 +526,13 @@ func powellBadlyScaledCGAnalyticConfirmGradient(x *[2]float64, fx float64, g, e 
 		wide.ratio[i] *= 2
 	}
 	var doubled [2]float64
-	powellBadlyScaledCGAnalyticDerivative(x, fx, g, diffs)
-	powellBadlyScaledCGAnalyticDerivative(x, fx, &doubled, &wide)
+	calls += powellBadlyScaledCGAnalyticDerivative(x, fx, g, diffs)
+	calls += powellBadlyScaledCGAnalyticDerivative(x, fx, &doubled, &wide)
 	powellBadlyScaledCGAnalyticGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * powellBadlyScaledCGAnalyticAbs(g[i]-doubled[i])
 	}
-	return calls + 2*powellBadlyScaledCGAnalyticDerivativeCost, true
+	return calls, true
 }
 
 // powellBadlyScaledCGAnalyticGradientError: the analytic gradient is taken as exact; its error is
@@ -565,23 +574,70 @@ func powellBadlyScaledCGAnalyticDiagonalCurvature(x, g *[2]float64, diffs *powel
 	var moved [2]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := powellBadlyScaledCGAnalyticProbeStep(xi, powellBadlyScaledCGAnalyticSquareRoot(powellBadlyScaledCGAnalyticUnitRoundoff)*powellBadlyScaledCGAnalyticLarger(1, powellBadlyScaledCGAnalyticAbs(xi)))
-		probe[i] = up
-		PowellBadlyScaledGrad(&probe, &moved)
-		h[i] = powellBadlyScaledCGAnalyticAbs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := powellBadlyScaledCGAnalyticCoordinateRange(i, diffs)
+		up, delta := powellBadlyScaledCGAnalyticProbeStep(xi, powellBadlyScaledCGAnalyticOneSide(xi, powellBadlyScaledCGAnalyticSquareRoot(powellBadlyScaledCGAnalyticUnitRoundoff)*powellBadlyScaledCGAnalyticLarger(1, powellBadlyScaledCGAnalyticAbs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			PowellBadlyScaledGrad(&probe, &moved)
+			h[i] = powellBadlyScaledCGAnalyticAbs(moved[i]-g[i]) / powellBadlyScaledCGAnalyticAbs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// powellBadlyScaledCGAnalyticProbeStep returns x_i moved by h, and the step actually representable.
-func powellBadlyScaledCGAnalyticProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// powellBadlyScaledCGAnalyticCoordinateRange: without bounds any probe is allowed.
+func powellBadlyScaledCGAnalyticCoordinateRange(i int, diffs *powellBadlyScaledCGAnalyticDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// powellBadlyScaledCGAnalyticProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func powellBadlyScaledCGAnalyticProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := powellBadlyScaledCGAnalyticClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// powellBadlyScaledCGAnalyticClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func powellBadlyScaledCGAnalyticClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// powellBadlyScaledCGAnalyticOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func powellBadlyScaledCGAnalyticOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // powellBadlyScaledCGAnalyticSquareRoot returns √v.
 func powellBadlyScaledCGAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// powellBadlyScaledCGAnalyticStationarity measures the gradient itself.
+func powellBadlyScaledCGAnalyticStationarity(g, e, x *[2]float64, fx float64, b *powellBadlyScaledCGAnalyticBox) (measure, floor float64) {
+	return powellBadlyScaledCGAnalyticGradientMeasure(g, e, x, fx)
 }
 
 // powellBadlyScaledCGAnalyticGradientMeasure is the scale-free measure
@@ -617,6 +673,15 @@ func powellBadlyScaledCGAnalyticStepWithin(s, x *[2]float64, tol float64) bool {
 	return true
 }
 
+// powellBadlyScaledCGAnalyticCurvaturePair: without bounds the pair is used as it is.
+func powellBadlyScaledCGAnalyticCurvaturePair(s, y, x *[2]float64, b *powellBadlyScaledCGAnalyticBox) {
+}
+
+// powellBadlyScaledCGAnalyticSearchDirection is the direction's own.
+func powellBadlyScaledCGAnalyticSearchDirection(dir *powellBadlyScaledCGAnalyticDirection, x, g, d *[2]float64, b *powellBadlyScaledCGAnalyticBox) {
+	dir.compute(g, d)
+}
+
 // powellBadlyScaledCGAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func powellBadlyScaledCGAnalyticTinyStep(x, d *[2]float64, tol float64) float64 {
@@ -644,7 +709,10 @@ func powellBadlyScaledCGAnalyticTinyStep(x, d *[2]float64, tol float64) float64 
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (powellBadlyScaledCGAnalyticStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -653,13 +721,17 @@ func powellBadlyScaledCGAnalyticTinyStep(x, d *[2]float64, tol float64) float64 
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func powellBadlyScaledCGAnalyticLineSearch(x *[2]float64, fx float64, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *powellBadlyScaledCGAnalyticDifferences) powellBadlyScaledCGAnalyticLineResult {
+func powellBadlyScaledCGAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *powellBadlyScaledCGAnalyticDifferences) powellBadlyScaledCGAnalyticLineResult {
 	low := powellBadlyScaledCGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high powellBadlyScaledCGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                           // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend powellBadlyScaledCGAnalyticRiseTrend // of the trials failing sufficient decrease
+	var trend powellBadlyScaledCGAnalyticRiseTrend                         // of the trials failing sufficient decrease
+	limit := powellBadlyScaledCGAnalyticStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < powellBadlyScaledCGAnalyticStepTrials; trial++ {
 		if bracketed && powellBadlyScaledCGAnalyticAbs(high.step-low.step) <= tiny {
@@ -669,12 +741,12 @@ func powellBadlyScaledCGAnalyticLineSearch(x *[2]float64, fx float64, d *[2]floa
 			if low.step == 0 {
 				return powellBadlyScaledCGAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: powellBadlyScaledCGAnalyticTinyOrExhausted(powellBadlyScaledCGAnalyticFinite(high.value))}
 			}
-			return powellBadlyScaledCGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return powellBadlyScaledCGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return powellBadlyScaledCGAnalyticLineResult{calls: calls, end: powellBadlyScaledCGAnalyticSearchOutOfBudget}
 		}
-		powellBadlyScaledCGAnalyticMoveTo(xt, x, t, d)
+		powellBadlyScaledCGAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := powellBadlyScaledCGAnalyticLinePoint{step: t, value: PowellBadlyScaled(xt)}
 		calls++
 		previous := low
@@ -685,8 +757,7 @@ func powellBadlyScaledCGAnalyticLineSearch(x *[2]float64, fx float64, d *[2]floa
 			if calls+powellBadlyScaledCGAnalyticDerivativeCost > budget {
 				return powellBadlyScaledCGAnalyticLineResult{calls: calls, end: powellBadlyScaledCGAnalyticSearchOutOfBudget}
 			}
-			powellBadlyScaledCGAnalyticDerivative(xt, current.value, gt, diffs)
-			calls += powellBadlyScaledCGAnalyticDerivativeCost
+			calls += powellBadlyScaledCGAnalyticDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = powellBadlyScaledCGAnalyticDot(gt, d), true
 			switch {
 			case !powellBadlyScaledCGAnalyticFinite(current.slope):
@@ -697,18 +768,22 @@ func powellBadlyScaledCGAnalyticLineSearch(x *[2]float64, fx float64, d *[2]floa
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return powellBadlyScaledCGAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: powellBadlyScaledCGAnalyticSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = powellBadlyScaledCGAnalyticZoomTrial(&low, &high)
-		} else {
-			t = powellBadlyScaledCGAnalyticExpandTrial(&previous, &current)
+		} else if t = powellBadlyScaledCGAnalyticExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return powellBadlyScaledCGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return powellBadlyScaledCGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return powellBadlyScaledCGAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: powellBadlyScaledCGAnalyticSearchExhausted}
 }
@@ -795,6 +870,11 @@ func powellBadlyScaledCGAnalyticFaithfulStep(x, xt, d *[2]float64, t float64) bo
 	return true
 }
 
+// powellBadlyScaledCGAnalyticStepCap: without bounds a step may be as long as the search wants.
+func powellBadlyScaledCGAnalyticStepCap(x, d *[2]float64, tiny float64, b *powellBadlyScaledCGAnalyticBox) float64 {
+	return math.Inf(1)
+}
+
 // powellBadlyScaledCGAnalyticTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -819,10 +899,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func powellBadlyScaledCGAnalyticAcceptLow(x, d *[2]float64, low *powellBadlyScaledCGAnalyticLinePoint, lowGradient *[2]float64, calls int, xt, gt *[2]float64) powellBadlyScaledCGAnalyticLineResult {
-	powellBadlyScaledCGAnalyticMoveTo(xt, x, low.step, d)
+func powellBadlyScaledCGAnalyticAcceptLow(x, d *[2]float64, low *powellBadlyScaledCGAnalyticLinePoint, lowGradient *[2]float64, calls int, xt, gt *[2]float64, diffs *powellBadlyScaledCGAnalyticDifferences) powellBadlyScaledCGAnalyticLineResult {
+	powellBadlyScaledCGAnalyticTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return powellBadlyScaledCGAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: powellBadlyScaledCGAnalyticSearchAccepted}
+}
+
+// powellBadlyScaledCGAnalyticTrialPoint is x + t·d.
+func powellBadlyScaledCGAnalyticTrialPoint(out, x *[2]float64, t float64, d *[2]float64, b *powellBadlyScaledCGAnalyticBox) {
+	powellBadlyScaledCGAnalyticMoveTo(out, x, t, d)
 }
 
 // powellBadlyScaledCGAnalyticMoveTo sets out = x + t·d.
@@ -877,21 +962,6 @@ func powellBadlyScaledCGAnalyticModelMinimizer(a, b *powellBadlyScaledCGAnalytic
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, powellBadlyScaledCGAnalyticFinite(t)
-}
-
-// powellBadlyScaledCGAnalyticClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func powellBadlyScaledCGAnalyticClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // powellBadlyScaledCGAnalyticExpandTrial picks a larger trial after current met sufficient decrease

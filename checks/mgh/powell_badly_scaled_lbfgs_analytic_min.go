@@ -88,6 +88,9 @@ func PowellBadlyScaledLBFGSAnalyticDefaultLimits() PowellBadlyScaledLBFGSAnalyti
 	}
 }
 
+// powellBadlyScaledLBFGSAnalyticBox is empty: mgh.toml sets no bounds on PowellBadlyScaledLBFGSAnalytic.
+type powellBadlyScaledLBFGSAnalyticBox struct{}
+
 // PowellBadlyScaledLBFGSAnalytic minimizes PowellBadlyScaled from x0, as mgh.toml specifies.
 //
 // Direction lbfgs: limited-memory BFGS: the last `memory` pairs, two-loop recursion (2·memory·dim numbers).
@@ -105,7 +108,7 @@ func PowellBadlyScaledLBFGSAnalytic(x0 [2]float64) PowellBadlyScaledLBFGSAnalyti
 
 // PowellBadlyScaledLBFGSAnalyticWithLimits is PowellBadlyScaledLBFGSAnalytic with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func PowellBadlyScaledLBFGSAnalyticWithLimits(x0 [2]float64, limits PowellBadlyScaledLBFGSAnalyticLimits) PowellBadlyScaledLBFGSAnalyticResult {
-	out := powellBadlyScaledLBFGSAnalyticMinimize(x0, limits)
+	out := powellBadlyScaledLBFGSAnalyticMinimize(x0, limits, powellBadlyScaledLBFGSAnalyticBox{})
 	return PowellBadlyScaledLBFGSAnalyticResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -159,27 +162,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func powellBadlyScaledLBFGSAnalyticMinimize(x0 [2]float64, lim PowellBadlyScaledLBFGSAnalyticLimits) powellBadlyScaledLBFGSAnalyticOutcome {
-	out := powellBadlyScaledLBFGSAnalyticOutcome{x: x0, status: PowellBadlyScaledLBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
+func powellBadlyScaledLBFGSAnalyticMinimize(x0 [2]float64, lim PowellBadlyScaledLBFGSAnalyticLimits, bounds powellBadlyScaledLBFGSAnalyticBox) powellBadlyScaledLBFGSAnalyticOutcome {
+	x := x0
+	powellBadlyScaledLBFGSAnalyticEnterBox(&x, &bounds)
+	out := powellBadlyScaledLBFGSAnalyticOutcome{x: x, status: PowellBadlyScaledLBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := PowellBadlyScaled(&x)
 	out.f, out.evaluations = fx, 1
 	if !powellBadlyScaledLBFGSAnalyticFinite(fx) || !powellBadlyScaledLBFGSAnalyticFiniteVec(&x) {
 		out.status = PowellBadlyScaledLBFGSAnalyticNonFiniteStart
 		return out
 	}
-	var diffs powellBadlyScaledLBFGSAnalyticDifferences
+	diffs := powellBadlyScaledLBFGSAnalyticDifferences{bounds: bounds}
 	calls, ok := powellBadlyScaledLBFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+powellBadlyScaledLBFGSAnalyticDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [2]float64
-	powellBadlyScaledLBFGSAnalyticDerivative(&x, fx, &g, &diffs)
-	out.evaluations += powellBadlyScaledLBFGSAnalyticDerivativeCost
+	out.evaluations += powellBadlyScaledLBFGSAnalyticDerivative(&x, fx, &g, &diffs)
 
 	if !powellBadlyScaledLBFGSAnalyticFiniteVec(&g) {
 		out.status = PowellBadlyScaledLBFGSAnalyticNonFiniteGradient
@@ -212,7 +215,7 @@ func powellBadlyScaledLBFGSAnalyticMinimize(x0 [2]float64, lim PowellBadlyScaled
 		case !confirmed:
 			powellBadlyScaledLBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := powellBadlyScaledLBFGSAnalyticGradientMeasure(&g, &e, &x, fx)
+		measure, floor := powellBadlyScaledLBFGSAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, powellBadlyScaledLBFGSAnalyticLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -251,16 +254,17 @@ func powellBadlyScaledLBFGSAnalyticMinimize(x0 [2]float64, lim PowellBadlyScaled
 			if rises >= 8 {
 				return best.ending(PowellBadlyScaledLBFGSAnalyticDiverged, out.iterations, out.evaluations)
 			}
+			powellBadlyScaledLBFGSAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(PowellBadlyScaledLBFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		powellBadlyScaledLBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := powellBadlyScaledLBFGSAnalyticDot(&g, &d)
 		if !(now < 0) || !powellBadlyScaledLBFGSAnalyticFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			powellBadlyScaledLBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = powellBadlyScaledLBFGSAnalyticDot(&g, &d)
 		}
 		first := float64(powellBadlyScaledLBFGSAnalyticStepInitial)
@@ -268,7 +272,7 @@ func powellBadlyScaledLBFGSAnalyticMinimize(x0 [2]float64, lim PowellBadlyScaled
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := powellBadlyScaledLBFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := powellBadlyScaledLBFGSAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := powellBadlyScaledLBFGSAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case powellBadlyScaledLBFGSAnalyticSearchOutOfBudget:
@@ -304,8 +308,7 @@ func powellBadlyScaledLBFGSAnalyticMinimize(x0 [2]float64, lim PowellBadlyScaled
 				}
 				return best.ending(PowellBadlyScaledLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			powellBadlyScaledLBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += powellBadlyScaledLBFGSAnalyticDerivativeCost
+			out.evaluations += powellBadlyScaledLBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		powellBadlyScaledLBFGSAnalyticDifference(&s, &xt, &x)
@@ -346,6 +349,9 @@ func (o powellBadlyScaledLBFGSAnalyticOutcome) ending(end PowellBadlyScaledLBFGS
 	return o
 }
 
+// powellBadlyScaledLBFGSAnalyticEnterBox: without bounds every start is inside.
+func powellBadlyScaledLBFGSAnalyticEnterBox(x *[2]float64, b *powellBadlyScaledLBFGSAnalyticBox) {}
+
 // powellBadlyScaledLBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -368,15 +374,17 @@ func powellBadlyScaledLBFGSAnalyticFiniteVec(x *[2]float64) bool {
 	return true
 }
 
-// powellBadlyScaledLBFGSAnalyticDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// powellBadlyScaledLBFGSAnalyticDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type powellBadlyScaledLBFGSAnalyticDifferences struct {
 	ratio     [2]float64
 	curvature [2]float64
 	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see powellBadlyScaledLBFGSAnalyticRoundingFloor)
+	bounds    powellBadlyScaledLBFGSAnalyticBox
 }
 
 // powellBadlyScaledLBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
@@ -385,8 +393,9 @@ func powellBadlyScaledLBFGSAnalyticCalibrate(x *[2]float64, fx float64, diffs *p
 }
 
 // powellBadlyScaledLBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func powellBadlyScaledLBFGSAnalyticDerivative(x *[2]float64, fx float64, g *[2]float64, diffs *powellBadlyScaledLBFGSAnalyticDifferences) {
+func powellBadlyScaledLBFGSAnalyticDerivative(x *[2]float64, fx float64, g *[2]float64, diffs *powellBadlyScaledLBFGSAnalyticDifferences) int {
 	PowellBadlyScaledGrad(x, g)
+	return 0
 }
 
 // powellBadlyScaledLBFGSAnalyticDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
@@ -551,13 +560,13 @@ func powellBadlyScaledLBFGSAnalyticConfirmGradient(x *[2]float64, fx float64, g,
 		wide.ratio[i] *= 2
 	}
 	var doubled [2]float64
-	powellBadlyScaledLBFGSAnalyticDerivative(x, fx, g, diffs)
-	powellBadlyScaledLBFGSAnalyticDerivative(x, fx, &doubled, &wide)
+	calls += powellBadlyScaledLBFGSAnalyticDerivative(x, fx, g, diffs)
+	calls += powellBadlyScaledLBFGSAnalyticDerivative(x, fx, &doubled, &wide)
 	powellBadlyScaledLBFGSAnalyticGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * powellBadlyScaledLBFGSAnalyticAbs(g[i]-doubled[i])
 	}
-	return calls + 2*powellBadlyScaledLBFGSAnalyticDerivativeCost, true
+	return calls, true
 }
 
 // powellBadlyScaledLBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
@@ -599,18 +608,60 @@ func powellBadlyScaledLBFGSAnalyticDiagonalCurvature(x, g *[2]float64, diffs *po
 	var moved [2]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := powellBadlyScaledLBFGSAnalyticProbeStep(xi, powellBadlyScaledLBFGSAnalyticSquareRoot(powellBadlyScaledLBFGSAnalyticUnitRoundoff)*powellBadlyScaledLBFGSAnalyticLarger(1, powellBadlyScaledLBFGSAnalyticAbs(xi)))
-		probe[i] = up
-		PowellBadlyScaledGrad(&probe, &moved)
-		h[i] = powellBadlyScaledLBFGSAnalyticAbs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := powellBadlyScaledLBFGSAnalyticCoordinateRange(i, diffs)
+		up, delta := powellBadlyScaledLBFGSAnalyticProbeStep(xi, powellBadlyScaledLBFGSAnalyticOneSide(xi, powellBadlyScaledLBFGSAnalyticSquareRoot(powellBadlyScaledLBFGSAnalyticUnitRoundoff)*powellBadlyScaledLBFGSAnalyticLarger(1, powellBadlyScaledLBFGSAnalyticAbs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			PowellBadlyScaledGrad(&probe, &moved)
+			h[i] = powellBadlyScaledLBFGSAnalyticAbs(moved[i]-g[i]) / powellBadlyScaledLBFGSAnalyticAbs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// powellBadlyScaledLBFGSAnalyticProbeStep returns x_i moved by h, and the step actually representable.
-func powellBadlyScaledLBFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// powellBadlyScaledLBFGSAnalyticCoordinateRange: without bounds any probe is allowed.
+func powellBadlyScaledLBFGSAnalyticCoordinateRange(i int, diffs *powellBadlyScaledLBFGSAnalyticDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// powellBadlyScaledLBFGSAnalyticProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func powellBadlyScaledLBFGSAnalyticProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := powellBadlyScaledLBFGSAnalyticClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// powellBadlyScaledLBFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func powellBadlyScaledLBFGSAnalyticClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// powellBadlyScaledLBFGSAnalyticOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func powellBadlyScaledLBFGSAnalyticOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // powellBadlyScaledLBFGSAnalyticSquareRoot returns √v.
@@ -626,6 +677,11 @@ func powellBadlyScaledLBFGSAnalyticLarger(a, b float64) float64 {
 		return a
 	}
 	return b
+}
+
+// powellBadlyScaledLBFGSAnalyticStationarity measures the gradient itself.
+func powellBadlyScaledLBFGSAnalyticStationarity(g, e, x *[2]float64, fx float64, b *powellBadlyScaledLBFGSAnalyticBox) (measure, floor float64) {
+	return powellBadlyScaledLBFGSAnalyticGradientMeasure(g, e, x, fx)
 }
 
 // powellBadlyScaledLBFGSAnalyticGradientMeasure is the scale-free measure
@@ -661,6 +717,15 @@ func powellBadlyScaledLBFGSAnalyticStepWithin(s, x *[2]float64, tol float64) boo
 	return true
 }
 
+// powellBadlyScaledLBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
+func powellBadlyScaledLBFGSAnalyticCurvaturePair(s, y, x *[2]float64, b *powellBadlyScaledLBFGSAnalyticBox) {
+}
+
+// powellBadlyScaledLBFGSAnalyticSearchDirection is the direction's own.
+func powellBadlyScaledLBFGSAnalyticSearchDirection(dir *powellBadlyScaledLBFGSAnalyticDirection, x, g, d *[2]float64, b *powellBadlyScaledLBFGSAnalyticBox) {
+	dir.compute(g, d)
+}
+
 // powellBadlyScaledLBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func powellBadlyScaledLBFGSAnalyticTinyStep(x, d *[2]float64, tol float64) float64 {
@@ -688,7 +753,10 @@ func powellBadlyScaledLBFGSAnalyticTinyStep(x, d *[2]float64, tol float64) float
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (powellBadlyScaledLBFGSAnalyticStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -697,13 +765,17 @@ func powellBadlyScaledLBFGSAnalyticTinyStep(x, d *[2]float64, tol float64) float
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func powellBadlyScaledLBFGSAnalyticLineSearch(x *[2]float64, fx float64, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *powellBadlyScaledLBFGSAnalyticDifferences) powellBadlyScaledLBFGSAnalyticLineResult {
+func powellBadlyScaledLBFGSAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *powellBadlyScaledLBFGSAnalyticDifferences) powellBadlyScaledLBFGSAnalyticLineResult {
 	low := powellBadlyScaledLBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high powellBadlyScaledLBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                              // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend powellBadlyScaledLBFGSAnalyticRiseTrend // of the trials failing sufficient decrease
+	var trend powellBadlyScaledLBFGSAnalyticRiseTrend                         // of the trials failing sufficient decrease
+	limit := powellBadlyScaledLBFGSAnalyticStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < powellBadlyScaledLBFGSAnalyticStepTrials; trial++ {
 		if bracketed && powellBadlyScaledLBFGSAnalyticAbs(high.step-low.step) <= tiny {
@@ -713,12 +785,12 @@ func powellBadlyScaledLBFGSAnalyticLineSearch(x *[2]float64, fx float64, d *[2]f
 			if low.step == 0 {
 				return powellBadlyScaledLBFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: powellBadlyScaledLBFGSAnalyticTinyOrExhausted(powellBadlyScaledLBFGSAnalyticFinite(high.value))}
 			}
-			return powellBadlyScaledLBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return powellBadlyScaledLBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return powellBadlyScaledLBFGSAnalyticLineResult{calls: calls, end: powellBadlyScaledLBFGSAnalyticSearchOutOfBudget}
 		}
-		powellBadlyScaledLBFGSAnalyticMoveTo(xt, x, t, d)
+		powellBadlyScaledLBFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := powellBadlyScaledLBFGSAnalyticLinePoint{step: t, value: PowellBadlyScaled(xt)}
 		calls++
 		previous := low
@@ -729,8 +801,7 @@ func powellBadlyScaledLBFGSAnalyticLineSearch(x *[2]float64, fx float64, d *[2]f
 			if calls+powellBadlyScaledLBFGSAnalyticDerivativeCost > budget {
 				return powellBadlyScaledLBFGSAnalyticLineResult{calls: calls, end: powellBadlyScaledLBFGSAnalyticSearchOutOfBudget}
 			}
-			powellBadlyScaledLBFGSAnalyticDerivative(xt, current.value, gt, diffs)
-			calls += powellBadlyScaledLBFGSAnalyticDerivativeCost
+			calls += powellBadlyScaledLBFGSAnalyticDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = powellBadlyScaledLBFGSAnalyticDot(gt, d), true
 			switch {
 			case !powellBadlyScaledLBFGSAnalyticFinite(current.slope):
@@ -741,18 +812,22 @@ func powellBadlyScaledLBFGSAnalyticLineSearch(x *[2]float64, fx float64, d *[2]f
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return powellBadlyScaledLBFGSAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: powellBadlyScaledLBFGSAnalyticSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = powellBadlyScaledLBFGSAnalyticZoomTrial(&low, &high)
-		} else {
-			t = powellBadlyScaledLBFGSAnalyticExpandTrial(&previous, &current)
+		} else if t = powellBadlyScaledLBFGSAnalyticExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return powellBadlyScaledLBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return powellBadlyScaledLBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return powellBadlyScaledLBFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: powellBadlyScaledLBFGSAnalyticSearchExhausted}
 }
@@ -839,6 +914,11 @@ func powellBadlyScaledLBFGSAnalyticFaithfulStep(x, xt, d *[2]float64, t float64)
 	return true
 }
 
+// powellBadlyScaledLBFGSAnalyticStepCap: without bounds a step may be as long as the search wants.
+func powellBadlyScaledLBFGSAnalyticStepCap(x, d *[2]float64, tiny float64, b *powellBadlyScaledLBFGSAnalyticBox) float64 {
+	return math.Inf(1)
+}
+
 // powellBadlyScaledLBFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -863,10 +943,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func powellBadlyScaledLBFGSAnalyticAcceptLow(x, d *[2]float64, low *powellBadlyScaledLBFGSAnalyticLinePoint, lowGradient *[2]float64, calls int, xt, gt *[2]float64) powellBadlyScaledLBFGSAnalyticLineResult {
-	powellBadlyScaledLBFGSAnalyticMoveTo(xt, x, low.step, d)
+func powellBadlyScaledLBFGSAnalyticAcceptLow(x, d *[2]float64, low *powellBadlyScaledLBFGSAnalyticLinePoint, lowGradient *[2]float64, calls int, xt, gt *[2]float64, diffs *powellBadlyScaledLBFGSAnalyticDifferences) powellBadlyScaledLBFGSAnalyticLineResult {
+	powellBadlyScaledLBFGSAnalyticTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return powellBadlyScaledLBFGSAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: powellBadlyScaledLBFGSAnalyticSearchAccepted}
+}
+
+// powellBadlyScaledLBFGSAnalyticTrialPoint is x + t·d.
+func powellBadlyScaledLBFGSAnalyticTrialPoint(out, x *[2]float64, t float64, d *[2]float64, b *powellBadlyScaledLBFGSAnalyticBox) {
+	powellBadlyScaledLBFGSAnalyticMoveTo(out, x, t, d)
 }
 
 // powellBadlyScaledLBFGSAnalyticMoveTo sets out = x + t·d.
@@ -921,21 +1006,6 @@ func powellBadlyScaledLBFGSAnalyticModelMinimizer(a, b *powellBadlyScaledLBFGSAn
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, powellBadlyScaledLBFGSAnalyticFinite(t)
-}
-
-// powellBadlyScaledLBFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func powellBadlyScaledLBFGSAnalyticClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // powellBadlyScaledLBFGSAnalyticExpandTrial picks a larger trial after current met sufficient decrease

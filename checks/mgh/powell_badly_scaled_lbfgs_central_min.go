@@ -88,6 +88,9 @@ func PowellBadlyScaledLBFGSCentralDefaultLimits() PowellBadlyScaledLBFGSCentralL
 	}
 }
 
+// powellBadlyScaledLBFGSCentralBox is empty: mgh.toml sets no bounds on PowellBadlyScaledLBFGSCentral.
+type powellBadlyScaledLBFGSCentralBox struct{}
+
 // PowellBadlyScaledLBFGSCentral minimizes PowellBadlyScaled from x0, as mgh.toml specifies.
 //
 // Direction lbfgs: limited-memory BFGS: the last `memory` pairs, two-loop recursion (2·memory·dim numbers).
@@ -105,7 +108,7 @@ func PowellBadlyScaledLBFGSCentral(x0 [2]float64) PowellBadlyScaledLBFGSCentralR
 
 // PowellBadlyScaledLBFGSCentralWithLimits is PowellBadlyScaledLBFGSCentral with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func PowellBadlyScaledLBFGSCentralWithLimits(x0 [2]float64, limits PowellBadlyScaledLBFGSCentralLimits) PowellBadlyScaledLBFGSCentralResult {
-	out := powellBadlyScaledLBFGSCentralMinimize(x0, limits)
+	out := powellBadlyScaledLBFGSCentralMinimize(x0, limits, powellBadlyScaledLBFGSCentralBox{})
 	return PowellBadlyScaledLBFGSCentralResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -159,27 +162,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func powellBadlyScaledLBFGSCentralMinimize(x0 [2]float64, lim PowellBadlyScaledLBFGSCentralLimits) powellBadlyScaledLBFGSCentralOutcome {
-	out := powellBadlyScaledLBFGSCentralOutcome{x: x0, status: PowellBadlyScaledLBFGSCentralOutOfEvaluations, gradient: math.NaN()}
+func powellBadlyScaledLBFGSCentralMinimize(x0 [2]float64, lim PowellBadlyScaledLBFGSCentralLimits, bounds powellBadlyScaledLBFGSCentralBox) powellBadlyScaledLBFGSCentralOutcome {
+	x := x0
+	powellBadlyScaledLBFGSCentralEnterBox(&x, &bounds)
+	out := powellBadlyScaledLBFGSCentralOutcome{x: x, status: PowellBadlyScaledLBFGSCentralOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := PowellBadlyScaled(&x)
 	out.f, out.evaluations = fx, 1
 	if !powellBadlyScaledLBFGSCentralFinite(fx) || !powellBadlyScaledLBFGSCentralFiniteVec(&x) {
 		out.status = PowellBadlyScaledLBFGSCentralNonFiniteStart
 		return out
 	}
-	var diffs powellBadlyScaledLBFGSCentralDifferences
+	diffs := powellBadlyScaledLBFGSCentralDifferences{bounds: bounds}
 	calls, ok := powellBadlyScaledLBFGSCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+powellBadlyScaledLBFGSCentralDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [2]float64
-	powellBadlyScaledLBFGSCentralDerivative(&x, fx, &g, &diffs)
-	out.evaluations += powellBadlyScaledLBFGSCentralDerivativeCost
+	out.evaluations += powellBadlyScaledLBFGSCentralDerivative(&x, fx, &g, &diffs)
 
 	if !powellBadlyScaledLBFGSCentralFiniteVec(&g) {
 		out.status = PowellBadlyScaledLBFGSCentralNonFiniteGradient
@@ -212,7 +215,7 @@ func powellBadlyScaledLBFGSCentralMinimize(x0 [2]float64, lim PowellBadlyScaledL
 		case !confirmed:
 			powellBadlyScaledLBFGSCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := powellBadlyScaledLBFGSCentralGradientMeasure(&g, &e, &x, fx)
+		measure, floor := powellBadlyScaledLBFGSCentralStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, powellBadlyScaledLBFGSCentralLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -251,16 +254,17 @@ func powellBadlyScaledLBFGSCentralMinimize(x0 [2]float64, lim PowellBadlyScaledL
 			if rises >= 8 {
 				return best.ending(PowellBadlyScaledLBFGSCentralDiverged, out.iterations, out.evaluations)
 			}
+			powellBadlyScaledLBFGSCentralCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(PowellBadlyScaledLBFGSCentralOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		powellBadlyScaledLBFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := powellBadlyScaledLBFGSCentralDot(&g, &d)
 		if !(now < 0) || !powellBadlyScaledLBFGSCentralFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			powellBadlyScaledLBFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = powellBadlyScaledLBFGSCentralDot(&g, &d)
 		}
 		first := float64(powellBadlyScaledLBFGSCentralStepInitial)
@@ -268,7 +272,7 @@ func powellBadlyScaledLBFGSCentralMinimize(x0 [2]float64, lim PowellBadlyScaledL
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := powellBadlyScaledLBFGSCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := powellBadlyScaledLBFGSCentralLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := powellBadlyScaledLBFGSCentralLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case powellBadlyScaledLBFGSCentralSearchOutOfBudget:
@@ -304,8 +308,7 @@ func powellBadlyScaledLBFGSCentralMinimize(x0 [2]float64, lim PowellBadlyScaledL
 				}
 				return best.ending(PowellBadlyScaledLBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			powellBadlyScaledLBFGSCentralDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += powellBadlyScaledLBFGSCentralDerivativeCost
+			out.evaluations += powellBadlyScaledLBFGSCentralDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		powellBadlyScaledLBFGSCentralDifference(&s, &xt, &x)
@@ -346,6 +349,9 @@ func (o powellBadlyScaledLBFGSCentralOutcome) ending(end PowellBadlyScaledLBFGSC
 	return o
 }
 
+// powellBadlyScaledLBFGSCentralEnterBox: without bounds every start is inside.
+func powellBadlyScaledLBFGSCentralEnterBox(x *[2]float64, b *powellBadlyScaledLBFGSCentralBox) {}
+
 // powellBadlyScaledLBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -368,15 +374,17 @@ func powellBadlyScaledLBFGSCentralFiniteVec(x *[2]float64) bool {
 	return true
 }
 
-// powellBadlyScaledLBFGSCentralDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// powellBadlyScaledLBFGSCentralDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type powellBadlyScaledLBFGSCentralDifferences struct {
 	ratio     [2]float64
 	curvature [2]float64
 	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see powellBadlyScaledLBFGSCentralRoundingFloor)
+	bounds    powellBadlyScaledLBFGSCentralBox
 }
 
 // powellBadlyScaledLBFGSCentralCalibrate chooses each central-difference interval from the
@@ -398,19 +406,45 @@ func powellBadlyScaledLBFGSCentralCalibrate(x *[2]float64, fx float64, diffs *po
 	var slope [2]float64
 	scale := powellBadlyScaledLBFGSCentralAbs(fx)
 	quarter := powellBadlyScaledLBFGSCentralSquareRoot(powellBadlyScaledLBFGSCentralSquareRoot(powellBadlyScaledLBFGSCentralUnitRoundoff)) // u^(1/4)
+	calls := 0
 	for i := range probe {
-		if 4*(i+1) > budget {
-			return 4 * i, false
+		if calls+4 > budget {
+			return calls, false
 		}
 		xi := probe[i]
 		bar := quarter * powellBadlyScaledLBFGSCentralLarger(1, powellBadlyScaledLBFGSCentralAbs(xi))
+		lower, upper := powellBadlyScaledLBFGSCentralCoordinateRange(i, diffs)
+		if xi+2*bar > upper || xi-2*bar < lower {
+			// At a bound: three probes on the side with room, at h, 2h
+			// and 3h, for f‴ ≈ (f(3h) − 3f(2h) + 3f(h) − f(0))/h³ (the
+			// third forward difference).
+			h := powellBadlyScaledLBFGSCentralOneSide(xi, bar, 3, lower, upper)
+			if h == 0 {
+				continue // fixed by equal bounds
+			}
+			var f [3]float64
+			for k := range f {
+				probe[i], _ = powellBadlyScaledLBFGSCentralProbeStep(xi, float64(k+1)*h, lower, upper)
+				f[k] = PowellBadlyScaled(&probe)
+				scale = powellBadlyScaledLBFGSCentralLarger(scale, powellBadlyScaledLBFGSCentralMagnitude(f[k]))
+			}
+			probe[i] = xi
+			calls += 3
+			if powellBadlyScaledLBFGSCentralFinite(f[0]) && powellBadlyScaledLBFGSCentralFinite(f[1]) && powellBadlyScaledLBFGSCentralFinite(f[2]) {
+				diffs.curvature[i] = powellBadlyScaledLBFGSCentralAbs(f[2]-3*f[1]+3*f[0]-fx) / powellBadlyScaledLBFGSCentralAbs(h*h*h)
+				diffs.second[i] = powellBadlyScaledLBFGSCentralAbs(fx-2*f[0]+f[1]) / (h * h)
+				slope[i] = (-3*fx + 4*f[0] - f[1]) / (2 * h)
+			}
+			continue
+		}
 		var f [4]float64
 		for k, m := range [4]float64{2, 1, -1, -2} {
-			probe[i], _ = powellBadlyScaledLBFGSCentralProbeStep(xi, m*bar)
+			probe[i], _ = powellBadlyScaledLBFGSCentralProbeStep(xi, m*bar, lower, upper)
 			f[k] = PowellBadlyScaled(&probe)
 			scale = powellBadlyScaledLBFGSCentralLarger(scale, powellBadlyScaledLBFGSCentralMagnitude(f[k]))
 		}
 		probe[i] = xi
+		calls += 4
 		if powellBadlyScaledLBFGSCentralFinite(f[0]) && powellBadlyScaledLBFGSCentralFinite(f[1]) && powellBadlyScaledLBFGSCentralFinite(f[2]) && powellBadlyScaledLBFGSCentralFinite(f[3]) {
 			diffs.curvature[i] = powellBadlyScaledLBFGSCentralAbs(f[0]-2*f[1]+2*f[2]-f[3]) / (2 * bar * bar * bar)
 			diffs.second[i] = powellBadlyScaledLBFGSCentralAbs(f[1]-2*fx+f[2]) / (bar * bar)
@@ -429,7 +463,7 @@ func powellBadlyScaledLBFGSCentralCalibrate(x *[2]float64, fx float64, diffs *po
 		diffs.ratio[i] = powellBadlyScaledLBFGSCentralClampBetween(h, 64*powellBadlyScaledLBFGSCentralUnitRoundoff*s, bar) / s
 		diffs.curvature[i] = third
 	}
-	return 4 * len(probe), true
+	return calls, true
 }
 
 // powellBadlyScaledLBFGSCentralAbs returns |v|.
@@ -455,10 +489,48 @@ func powellBadlyScaledLBFGSCentralLarger(a, b float64) float64 {
 	return b
 }
 
-// powellBadlyScaledLBFGSCentralProbeStep returns x_i moved by h, and the step actually representable.
-func powellBadlyScaledLBFGSCentralProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// powellBadlyScaledLBFGSCentralCoordinateRange: without bounds any probe is allowed.
+func powellBadlyScaledLBFGSCentralCoordinateRange(i int, diffs *powellBadlyScaledLBFGSCentralDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// powellBadlyScaledLBFGSCentralOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func powellBadlyScaledLBFGSCentralOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
+}
+
+// powellBadlyScaledLBFGSCentralProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func powellBadlyScaledLBFGSCentralProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := powellBadlyScaledLBFGSCentralClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// powellBadlyScaledLBFGSCentralClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func powellBadlyScaledLBFGSCentralClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
 }
 
 // powellBadlyScaledLBFGSCentralMagnitude is |v| for a finite v and 0 otherwise: a probe that fell
@@ -494,42 +566,85 @@ func powellBadlyScaledLBFGSCentralCubeRoot(v float64) float64 {
 	return math.Cbrt(v)
 }
 
-// powellBadlyScaledLBFGSCentralClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func powellBadlyScaledLBFGSCentralClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
-}
-
 // powellBadlyScaledLBFGSCentralDerivative approximates the gradient by central differences,
 //
 //	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),
 //
 // with the intervals powellBadlyScaledLBFGSCentralCalibrate chose, h_i = ratio_i·max(1, |x_i|)
-// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls; fx is
-// not needed.
-func powellBadlyScaledLBFGSCentralDerivative(x *[2]float64, fx float64, g *[2]float64, diffs *powellBadlyScaledLBFGSCentralDifferences) {
+// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls. Where
+// a bound leaves no room on one side, the three-point endpoint formula on
+// the other side takes its place at the same cost (see parabola); a
+// variable fixed by equal bounds costs nothing and gets 0.
+func powellBadlyScaledLBFGSCentralDerivative(x *[2]float64, fx float64, g *[2]float64, diffs *powellBadlyScaledLBFGSCentralDifferences) int {
 	probe := *x
+	calls := 0
 	for i := range probe {
 		xi := probe[i]
-		h := diffs.ratio[i] * powellBadlyScaledLBFGSCentralLarger(1, powellBadlyScaledLBFGSCentralAbs(xi))
-		up, _ := powellBadlyScaledLBFGSCentralProbeStep(xi, h)
-		down, _ := powellBadlyScaledLBFGSCentralProbeStep(xi, -h)
-		probe[i] = up
-		fUp := PowellBadlyScaled(&probe)
-		probe[i] = down
-		fDown := PowellBadlyScaled(&probe)
-		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
-		probe[i] = xi
+		h, oneSided := powellBadlyScaledLBFGSCentralCentralInterval(x, i, diffs)
+		lower, upper := powellBadlyScaledLBFGSCentralCoordinateRange(i, diffs)
+		switch {
+		case h == 0:
+			g[i] = 0 // fixed by equal bounds
+			continue
+		case oneSided:
+			g[i], _, _ = powellBadlyScaledLBFGSCentralSidedProbes(&probe, i, fx, h, lower, upper) // the three-point endpoint formula
+		default:
+			up, _ := powellBadlyScaledLBFGSCentralProbeStep(xi, h, lower, upper)
+			down, _ := powellBadlyScaledLBFGSCentralProbeStep(xi, -h, lower, upper)
+			probe[i] = up
+			fUp := PowellBadlyScaled(&probe)
+			probe[i] = down
+			fDown := PowellBadlyScaled(&probe)
+			g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+			probe[i] = xi
+		}
+		calls += 2
 	}
+	return calls
+}
+
+// powellBadlyScaledLBFGSCentralCentralInterval is the interval of coordinate i at x, ratio_i·max(1,
+// |x_i|), and whether the box leaves room for probes on both sides; when
+// it does not, the interval is signed towards the side with room for
+// probes at h and 2h, and shortened where the box is narrower than that
+// (see powellBadlyScaledLBFGSCentralOneSide).
+func powellBadlyScaledLBFGSCentralCentralInterval(x *[2]float64, i int, diffs *powellBadlyScaledLBFGSCentralDifferences) (h float64, oneSided bool) {
+	lower, upper := powellBadlyScaledLBFGSCentralCoordinateRange(i, diffs)
+	h = diffs.ratio[i] * powellBadlyScaledLBFGSCentralLarger(1, powellBadlyScaledLBFGSCentralAbs(x[i]))
+	if x[i]+h <= upper && x[i]-h >= lower {
+		return h, false
+	}
+	return powellBadlyScaledLBFGSCentralOneSide(x[i], h, 2, lower, upper), true
+}
+
+// powellBadlyScaledLBFGSCentralSidedProbes evaluates f at x moved along coordinate i by h and by 2h,
+// kept within [lower, upper], and returns the slope and second derivative
+// of the parabola through them and (x, fx) (see parabola), and the larger
+// magnitude of the two values.
+func powellBadlyScaledLBFGSCentralSidedProbes(probe *[2]float64, i int, fx, h, lower, upper float64) (slope, second, size float64) {
+	xi := probe[i]
+	near, a := powellBadlyScaledLBFGSCentralProbeStep(xi, h, lower, upper)
+	far, b := powellBadlyScaledLBFGSCentralProbeStep(xi, 2*h, lower, upper)
+	probe[i] = near
+	fNear := PowellBadlyScaled(probe)
+	probe[i] = far
+	fFar := PowellBadlyScaled(probe)
+	probe[i] = xi
+	slope, second = powellBadlyScaledLBFGSCentralParabola(fx, a, fNear, b, fFar)
+	return slope, second, powellBadlyScaledLBFGSCentralLarger(powellBadlyScaledLBFGSCentralMagnitude(fNear), powellBadlyScaledLBFGSCentralMagnitude(fFar))
+}
+
+// powellBadlyScaledLBFGSCentralParabola returns the first and second derivatives at 0 of the parabola
+// through (0, f0), (a, fa) and (b, fb), for probes on one side of a bound.
+// With b = 2a they are the three-point endpoint formulas
+// f′ ≈ (−3f0 + 4fa − fb)/(2a), error a²|f‴|/3, and
+// f″ ≈ (f0 − 2fa + fb)/a² (Burden & Faires, Numerical Analysis, §4.1
+// and §4.1's second-derivative formulas, from memory); written for unequal
+// a and b, so that the representable steps can be used.
+func powellBadlyScaledLBFGSCentralParabola(f0, a, fa, b, fb float64) (slope, second float64) {
+	slope = -(a+b)/(a*b)*f0 + b/(a*(b-a))*fa - a/(b*(b-a))*fb
+	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
+	return slope, second
 }
 
 // powellBadlyScaledLBFGSCentralDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
@@ -694,13 +809,13 @@ func powellBadlyScaledLBFGSCentralConfirmGradient(x *[2]float64, fx float64, g, 
 		wide.ratio[i] *= 2
 	}
 	var doubled [2]float64
-	powellBadlyScaledLBFGSCentralDerivative(x, fx, g, diffs)
-	powellBadlyScaledLBFGSCentralDerivative(x, fx, &doubled, &wide)
+	calls += powellBadlyScaledLBFGSCentralDerivative(x, fx, g, diffs)
+	calls += powellBadlyScaledLBFGSCentralDerivative(x, fx, &doubled, &wide)
 	powellBadlyScaledLBFGSCentralGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * powellBadlyScaledLBFGSCentralAbs(g[i]-doubled[i])
 	}
-	return calls + 2*powellBadlyScaledLBFGSCentralDerivativeCost, true
+	return calls, true
 }
 
 // powellBadlyScaledLBFGSCentralGradientError bounds each central difference's error by twice its
@@ -710,8 +825,16 @@ func powellBadlyScaledLBFGSCentralConfirmGradient(x *[2]float64, fx float64, g, 
 func powellBadlyScaledLBFGSCentralGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *powellBadlyScaledLBFGSCentralDifferences) {
 	noise := powellBadlyScaledLBFGSCentralNoiseLevel(x, fx, g)
 	for i := range e {
-		h := diffs.ratio[i] * powellBadlyScaledLBFGSCentralLarger(1, powellBadlyScaledLBFGSCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		h, oneSided := powellBadlyScaledLBFGSCentralCentralInterval(x, i, diffs)
+		h = powellBadlyScaledLBFGSCentralAbs(h)
+		switch {
+		case h == 0:
+			e[i] = 0 // fixed by equal bounds
+		case oneSided:
+			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+		default:
+			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		}
 	}
 }
 
@@ -733,6 +856,11 @@ func powellBadlyScaledLBFGSCentralRoundingFloor(x, g, e *[2]float64, diffs *powe
 // calibration, which powellBadlyScaledLBFGSCentralConfirmGradient has just made at x.
 func powellBadlyScaledLBFGSCentralDiagonalCurvature(x, g *[2]float64, diffs *powellBadlyScaledLBFGSCentralDifferences, h *[2]float64) {
 	*h = diffs.second
+}
+
+// powellBadlyScaledLBFGSCentralStationarity measures the gradient itself.
+func powellBadlyScaledLBFGSCentralStationarity(g, e, x *[2]float64, fx float64, b *powellBadlyScaledLBFGSCentralBox) (measure, floor float64) {
+	return powellBadlyScaledLBFGSCentralGradientMeasure(g, e, x, fx)
 }
 
 // powellBadlyScaledLBFGSCentralGradientMeasure is the scale-free measure
@@ -768,6 +896,15 @@ func powellBadlyScaledLBFGSCentralStepWithin(s, x *[2]float64, tol float64) bool
 	return true
 }
 
+// powellBadlyScaledLBFGSCentralCurvaturePair: without bounds the pair is used as it is.
+func powellBadlyScaledLBFGSCentralCurvaturePair(s, y, x *[2]float64, b *powellBadlyScaledLBFGSCentralBox) {
+}
+
+// powellBadlyScaledLBFGSCentralSearchDirection is the direction's own.
+func powellBadlyScaledLBFGSCentralSearchDirection(dir *powellBadlyScaledLBFGSCentralDirection, x, g, d *[2]float64, b *powellBadlyScaledLBFGSCentralBox) {
+	dir.compute(g, d)
+}
+
 // powellBadlyScaledLBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func powellBadlyScaledLBFGSCentralTinyStep(x, d *[2]float64, tol float64) float64 {
@@ -795,7 +932,10 @@ func powellBadlyScaledLBFGSCentralTinyStep(x, d *[2]float64, tol float64) float6
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (powellBadlyScaledLBFGSCentralStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -804,13 +944,17 @@ func powellBadlyScaledLBFGSCentralTinyStep(x, d *[2]float64, tol float64) float6
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func powellBadlyScaledLBFGSCentralLineSearch(x *[2]float64, fx float64, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *powellBadlyScaledLBFGSCentralDifferences) powellBadlyScaledLBFGSCentralLineResult {
+func powellBadlyScaledLBFGSCentralLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *powellBadlyScaledLBFGSCentralDifferences) powellBadlyScaledLBFGSCentralLineResult {
 	low := powellBadlyScaledLBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high powellBadlyScaledLBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                             // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend powellBadlyScaledLBFGSCentralRiseTrend // of the trials failing sufficient decrease
+	var trend powellBadlyScaledLBFGSCentralRiseTrend                         // of the trials failing sufficient decrease
+	limit := powellBadlyScaledLBFGSCentralStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < powellBadlyScaledLBFGSCentralStepTrials; trial++ {
 		if bracketed && powellBadlyScaledLBFGSCentralAbs(high.step-low.step) <= tiny {
@@ -820,12 +964,12 @@ func powellBadlyScaledLBFGSCentralLineSearch(x *[2]float64, fx float64, d *[2]fl
 			if low.step == 0 {
 				return powellBadlyScaledLBFGSCentralLineResult{calls: calls, rising: trend.contradicts(), end: powellBadlyScaledLBFGSCentralTinyOrExhausted(powellBadlyScaledLBFGSCentralFinite(high.value))}
 			}
-			return powellBadlyScaledLBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return powellBadlyScaledLBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return powellBadlyScaledLBFGSCentralLineResult{calls: calls, end: powellBadlyScaledLBFGSCentralSearchOutOfBudget}
 		}
-		powellBadlyScaledLBFGSCentralMoveTo(xt, x, t, d)
+		powellBadlyScaledLBFGSCentralTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := powellBadlyScaledLBFGSCentralLinePoint{step: t, value: PowellBadlyScaled(xt)}
 		calls++
 		previous := low
@@ -836,8 +980,7 @@ func powellBadlyScaledLBFGSCentralLineSearch(x *[2]float64, fx float64, d *[2]fl
 			if calls+powellBadlyScaledLBFGSCentralDerivativeCost > budget {
 				return powellBadlyScaledLBFGSCentralLineResult{calls: calls, end: powellBadlyScaledLBFGSCentralSearchOutOfBudget}
 			}
-			powellBadlyScaledLBFGSCentralDerivative(xt, current.value, gt, diffs)
-			calls += powellBadlyScaledLBFGSCentralDerivativeCost
+			calls += powellBadlyScaledLBFGSCentralDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = powellBadlyScaledLBFGSCentralDot(gt, d), true
 			switch {
 			case !powellBadlyScaledLBFGSCentralFinite(current.slope):
@@ -848,18 +991,22 @@ func powellBadlyScaledLBFGSCentralLineSearch(x *[2]float64, fx float64, d *[2]fl
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return powellBadlyScaledLBFGSCentralLineResult{step: t, value: current.value, calls: calls, gradient: true, end: powellBadlyScaledLBFGSCentralSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = powellBadlyScaledLBFGSCentralZoomTrial(&low, &high)
-		} else {
-			t = powellBadlyScaledLBFGSCentralExpandTrial(&previous, &current)
+		} else if t = powellBadlyScaledLBFGSCentralExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return powellBadlyScaledLBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return powellBadlyScaledLBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return powellBadlyScaledLBFGSCentralLineResult{calls: calls, rising: trend.contradicts(), end: powellBadlyScaledLBFGSCentralSearchExhausted}
 }
@@ -946,6 +1093,11 @@ func powellBadlyScaledLBFGSCentralFaithfulStep(x, xt, d *[2]float64, t float64) 
 	return true
 }
 
+// powellBadlyScaledLBFGSCentralStepCap: without bounds a step may be as long as the search wants.
+func powellBadlyScaledLBFGSCentralStepCap(x, d *[2]float64, tiny float64, b *powellBadlyScaledLBFGSCentralBox) float64 {
+	return math.Inf(1)
+}
+
 // powellBadlyScaledLBFGSCentralTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -970,10 +1122,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func powellBadlyScaledLBFGSCentralAcceptLow(x, d *[2]float64, low *powellBadlyScaledLBFGSCentralLinePoint, lowGradient *[2]float64, calls int, xt, gt *[2]float64) powellBadlyScaledLBFGSCentralLineResult {
-	powellBadlyScaledLBFGSCentralMoveTo(xt, x, low.step, d)
+func powellBadlyScaledLBFGSCentralAcceptLow(x, d *[2]float64, low *powellBadlyScaledLBFGSCentralLinePoint, lowGradient *[2]float64, calls int, xt, gt *[2]float64, diffs *powellBadlyScaledLBFGSCentralDifferences) powellBadlyScaledLBFGSCentralLineResult {
+	powellBadlyScaledLBFGSCentralTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return powellBadlyScaledLBFGSCentralLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: powellBadlyScaledLBFGSCentralSearchAccepted}
+}
+
+// powellBadlyScaledLBFGSCentralTrialPoint is x + t·d.
+func powellBadlyScaledLBFGSCentralTrialPoint(out, x *[2]float64, t float64, d *[2]float64, b *powellBadlyScaledLBFGSCentralBox) {
+	powellBadlyScaledLBFGSCentralMoveTo(out, x, t, d)
 }
 
 // powellBadlyScaledLBFGSCentralMoveTo sets out = x + t·d.

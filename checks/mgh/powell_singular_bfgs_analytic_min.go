@@ -88,6 +88,9 @@ func PowellSingularBFGSAnalyticDefaultLimits() PowellSingularBFGSAnalyticLimits 
 	}
 }
 
+// powellSingularBFGSAnalyticBox is empty: mgh.toml sets no bounds on PowellSingularBFGSAnalytic.
+type powellSingularBFGSAnalyticBox struct{}
+
 // PowellSingularBFGSAnalytic minimizes PowellSingular from x0, as mgh.toml specifies.
 //
 // Direction bfgs: BFGS quasi-Newton with a dense inverse-Hessian approximation (dim² numbers).
@@ -105,7 +108,7 @@ func PowellSingularBFGSAnalytic(x0 [4]float64) PowellSingularBFGSAnalyticResult 
 
 // PowellSingularBFGSAnalyticWithLimits is PowellSingularBFGSAnalytic with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func PowellSingularBFGSAnalyticWithLimits(x0 [4]float64, limits PowellSingularBFGSAnalyticLimits) PowellSingularBFGSAnalyticResult {
-	out := powellSingularBFGSAnalyticMinimize(x0, limits)
+	out := powellSingularBFGSAnalyticMinimize(x0, limits, powellSingularBFGSAnalyticBox{})
 	return PowellSingularBFGSAnalyticResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func powellSingularBFGSAnalyticMinimize(x0 [4]float64, lim PowellSingularBFGSAnalyticLimits) powellSingularBFGSAnalyticOutcome {
-	out := powellSingularBFGSAnalyticOutcome{x: x0, status: PowellSingularBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
+func powellSingularBFGSAnalyticMinimize(x0 [4]float64, lim PowellSingularBFGSAnalyticLimits, bounds powellSingularBFGSAnalyticBox) powellSingularBFGSAnalyticOutcome {
+	x := x0
+	powellSingularBFGSAnalyticEnterBox(&x, &bounds)
+	out := powellSingularBFGSAnalyticOutcome{x: x, status: PowellSingularBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := PowellSingular(&x)
 	out.f, out.evaluations = fx, 1
 	if !powellSingularBFGSAnalyticFinite(fx) || !powellSingularBFGSAnalyticFiniteVec(&x) {
 		out.status = PowellSingularBFGSAnalyticNonFiniteStart
 		return out
 	}
-	var diffs powellSingularBFGSAnalyticDifferences
+	diffs := powellSingularBFGSAnalyticDifferences{bounds: bounds}
 	calls, ok := powellSingularBFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+powellSingularBFGSAnalyticDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [4]float64
-	powellSingularBFGSAnalyticDerivative(&x, fx, &g, &diffs)
-	out.evaluations += powellSingularBFGSAnalyticDerivativeCost
+	out.evaluations += powellSingularBFGSAnalyticDerivative(&x, fx, &g, &diffs)
 
 	if !powellSingularBFGSAnalyticFiniteVec(&g) {
 		out.status = PowellSingularBFGSAnalyticNonFiniteGradient
@@ -211,7 +214,7 @@ func powellSingularBFGSAnalyticMinimize(x0 [4]float64, lim PowellSingularBFGSAna
 		case !confirmed:
 			powellSingularBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := powellSingularBFGSAnalyticGradientMeasure(&g, &e, &x, fx)
+		measure, floor := powellSingularBFGSAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, powellSingularBFGSAnalyticLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func powellSingularBFGSAnalyticMinimize(x0 [4]float64, lim PowellSingularBFGSAna
 			if rises >= 8 {
 				return best.ending(PowellSingularBFGSAnalyticDiverged, out.iterations, out.evaluations)
 			}
+			powellSingularBFGSAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(PowellSingularBFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		powellSingularBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := powellSingularBFGSAnalyticDot(&g, &d)
 		if !(now < 0) || !powellSingularBFGSAnalyticFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			powellSingularBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = powellSingularBFGSAnalyticDot(&g, &d)
 		}
 		first := float64(powellSingularBFGSAnalyticStepInitial)
@@ -267,7 +271,7 @@ func powellSingularBFGSAnalyticMinimize(x0 [4]float64, lim PowellSingularBFGSAna
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := powellSingularBFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := powellSingularBFGSAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := powellSingularBFGSAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case powellSingularBFGSAnalyticSearchOutOfBudget:
@@ -303,8 +307,7 @@ func powellSingularBFGSAnalyticMinimize(x0 [4]float64, lim PowellSingularBFGSAna
 				}
 				return best.ending(PowellSingularBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			powellSingularBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += powellSingularBFGSAnalyticDerivativeCost
+			out.evaluations += powellSingularBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		powellSingularBFGSAnalyticDifference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o powellSingularBFGSAnalyticOutcome) ending(end PowellSingularBFGSAnalytic
 	return o
 }
 
+// powellSingularBFGSAnalyticEnterBox: without bounds every start is inside.
+func powellSingularBFGSAnalyticEnterBox(x *[4]float64, b *powellSingularBFGSAnalyticBox) {}
+
 // powellSingularBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func powellSingularBFGSAnalyticFiniteVec(x *[4]float64) bool {
 	return true
 }
 
-// powellSingularBFGSAnalyticDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// powellSingularBFGSAnalyticDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type powellSingularBFGSAnalyticDifferences struct {
 	ratio     [4]float64
 	curvature [4]float64
 	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see powellSingularBFGSAnalyticRoundingFloor)
+	bounds    powellSingularBFGSAnalyticBox
 }
 
 // powellSingularBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
@@ -384,8 +392,9 @@ func powellSingularBFGSAnalyticCalibrate(x *[4]float64, fx float64, diffs *powel
 }
 
 // powellSingularBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func powellSingularBFGSAnalyticDerivative(x *[4]float64, fx float64, g *[4]float64, diffs *powellSingularBFGSAnalyticDifferences) {
+func powellSingularBFGSAnalyticDerivative(x *[4]float64, fx float64, g *[4]float64, diffs *powellSingularBFGSAnalyticDifferences) int {
 	PowellSingularGrad(x, g)
+	return 0
 }
 
 // powellSingularBFGSAnalyticDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
@@ -525,13 +534,13 @@ func powellSingularBFGSAnalyticConfirmGradient(x *[4]float64, fx float64, g, e *
 		wide.ratio[i] *= 2
 	}
 	var doubled [4]float64
-	powellSingularBFGSAnalyticDerivative(x, fx, g, diffs)
-	powellSingularBFGSAnalyticDerivative(x, fx, &doubled, &wide)
+	calls += powellSingularBFGSAnalyticDerivative(x, fx, g, diffs)
+	calls += powellSingularBFGSAnalyticDerivative(x, fx, &doubled, &wide)
 	powellSingularBFGSAnalyticGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * powellSingularBFGSAnalyticAbs(g[i]-doubled[i])
 	}
-	return calls + 2*powellSingularBFGSAnalyticDerivativeCost, true
+	return calls, true
 }
 
 // powellSingularBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
@@ -573,18 +582,60 @@ func powellSingularBFGSAnalyticDiagonalCurvature(x, g *[4]float64, diffs *powell
 	var moved [4]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := powellSingularBFGSAnalyticProbeStep(xi, powellSingularBFGSAnalyticSquareRoot(powellSingularBFGSAnalyticUnitRoundoff)*powellSingularBFGSAnalyticLarger(1, powellSingularBFGSAnalyticAbs(xi)))
-		probe[i] = up
-		PowellSingularGrad(&probe, &moved)
-		h[i] = powellSingularBFGSAnalyticAbs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := powellSingularBFGSAnalyticCoordinateRange(i, diffs)
+		up, delta := powellSingularBFGSAnalyticProbeStep(xi, powellSingularBFGSAnalyticOneSide(xi, powellSingularBFGSAnalyticSquareRoot(powellSingularBFGSAnalyticUnitRoundoff)*powellSingularBFGSAnalyticLarger(1, powellSingularBFGSAnalyticAbs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			PowellSingularGrad(&probe, &moved)
+			h[i] = powellSingularBFGSAnalyticAbs(moved[i]-g[i]) / powellSingularBFGSAnalyticAbs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// powellSingularBFGSAnalyticProbeStep returns x_i moved by h, and the step actually representable.
-func powellSingularBFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// powellSingularBFGSAnalyticCoordinateRange: without bounds any probe is allowed.
+func powellSingularBFGSAnalyticCoordinateRange(i int, diffs *powellSingularBFGSAnalyticDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// powellSingularBFGSAnalyticProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func powellSingularBFGSAnalyticProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := powellSingularBFGSAnalyticClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// powellSingularBFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func powellSingularBFGSAnalyticClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// powellSingularBFGSAnalyticOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func powellSingularBFGSAnalyticOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // powellSingularBFGSAnalyticSquareRoot returns √v.
@@ -600,6 +651,11 @@ func powellSingularBFGSAnalyticLarger(a, b float64) float64 {
 		return a
 	}
 	return b
+}
+
+// powellSingularBFGSAnalyticStationarity measures the gradient itself.
+func powellSingularBFGSAnalyticStationarity(g, e, x *[4]float64, fx float64, b *powellSingularBFGSAnalyticBox) (measure, floor float64) {
+	return powellSingularBFGSAnalyticGradientMeasure(g, e, x, fx)
 }
 
 // powellSingularBFGSAnalyticGradientMeasure is the scale-free measure
@@ -635,6 +691,14 @@ func powellSingularBFGSAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
 	return true
 }
 
+// powellSingularBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
+func powellSingularBFGSAnalyticCurvaturePair(s, y, x *[4]float64, b *powellSingularBFGSAnalyticBox) {}
+
+// powellSingularBFGSAnalyticSearchDirection is the direction's own.
+func powellSingularBFGSAnalyticSearchDirection(dir *powellSingularBFGSAnalyticDirection, x, g, d *[4]float64, b *powellSingularBFGSAnalyticBox) {
+	dir.compute(g, d)
+}
+
 // powellSingularBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func powellSingularBFGSAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
@@ -662,7 +726,10 @@ func powellSingularBFGSAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (powellSingularBFGSAnalyticStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -671,13 +738,17 @@ func powellSingularBFGSAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func powellSingularBFGSAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *powellSingularBFGSAnalyticDifferences) powellSingularBFGSAnalyticLineResult {
+func powellSingularBFGSAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *powellSingularBFGSAnalyticDifferences) powellSingularBFGSAnalyticLineResult {
 	low := powellSingularBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high powellSingularBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                          // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend powellSingularBFGSAnalyticRiseTrend // of the trials failing sufficient decrease
+	var trend powellSingularBFGSAnalyticRiseTrend                         // of the trials failing sufficient decrease
+	limit := powellSingularBFGSAnalyticStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < powellSingularBFGSAnalyticStepTrials; trial++ {
 		if bracketed && powellSingularBFGSAnalyticAbs(high.step-low.step) <= tiny {
@@ -687,12 +758,12 @@ func powellSingularBFGSAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float
 			if low.step == 0 {
 				return powellSingularBFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: powellSingularBFGSAnalyticTinyOrExhausted(powellSingularBFGSAnalyticFinite(high.value))}
 			}
-			return powellSingularBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return powellSingularBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return powellSingularBFGSAnalyticLineResult{calls: calls, end: powellSingularBFGSAnalyticSearchOutOfBudget}
 		}
-		powellSingularBFGSAnalyticMoveTo(xt, x, t, d)
+		powellSingularBFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := powellSingularBFGSAnalyticLinePoint{step: t, value: PowellSingular(xt)}
 		calls++
 		previous := low
@@ -703,8 +774,7 @@ func powellSingularBFGSAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float
 			if calls+powellSingularBFGSAnalyticDerivativeCost > budget {
 				return powellSingularBFGSAnalyticLineResult{calls: calls, end: powellSingularBFGSAnalyticSearchOutOfBudget}
 			}
-			powellSingularBFGSAnalyticDerivative(xt, current.value, gt, diffs)
-			calls += powellSingularBFGSAnalyticDerivativeCost
+			calls += powellSingularBFGSAnalyticDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = powellSingularBFGSAnalyticDot(gt, d), true
 			switch {
 			case !powellSingularBFGSAnalyticFinite(current.slope):
@@ -715,18 +785,22 @@ func powellSingularBFGSAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return powellSingularBFGSAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: powellSingularBFGSAnalyticSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = powellSingularBFGSAnalyticZoomTrial(&low, &high)
-		} else {
-			t = powellSingularBFGSAnalyticExpandTrial(&previous, &current)
+		} else if t = powellSingularBFGSAnalyticExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return powellSingularBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return powellSingularBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return powellSingularBFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: powellSingularBFGSAnalyticSearchExhausted}
 }
@@ -813,6 +887,11 @@ func powellSingularBFGSAnalyticFaithfulStep(x, xt, d *[4]float64, t float64) boo
 	return true
 }
 
+// powellSingularBFGSAnalyticStepCap: without bounds a step may be as long as the search wants.
+func powellSingularBFGSAnalyticStepCap(x, d *[4]float64, tiny float64, b *powellSingularBFGSAnalyticBox) float64 {
+	return math.Inf(1)
+}
+
 // powellSingularBFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -837,10 +916,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func powellSingularBFGSAnalyticAcceptLow(x, d *[4]float64, low *powellSingularBFGSAnalyticLinePoint, lowGradient *[4]float64, calls int, xt, gt *[4]float64) powellSingularBFGSAnalyticLineResult {
-	powellSingularBFGSAnalyticMoveTo(xt, x, low.step, d)
+func powellSingularBFGSAnalyticAcceptLow(x, d *[4]float64, low *powellSingularBFGSAnalyticLinePoint, lowGradient *[4]float64, calls int, xt, gt *[4]float64, diffs *powellSingularBFGSAnalyticDifferences) powellSingularBFGSAnalyticLineResult {
+	powellSingularBFGSAnalyticTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return powellSingularBFGSAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: powellSingularBFGSAnalyticSearchAccepted}
+}
+
+// powellSingularBFGSAnalyticTrialPoint is x + t·d.
+func powellSingularBFGSAnalyticTrialPoint(out, x *[4]float64, t float64, d *[4]float64, b *powellSingularBFGSAnalyticBox) {
+	powellSingularBFGSAnalyticMoveTo(out, x, t, d)
 }
 
 // powellSingularBFGSAnalyticMoveTo sets out = x + t·d.
@@ -895,21 +979,6 @@ func powellSingularBFGSAnalyticModelMinimizer(a, b *powellSingularBFGSAnalyticLi
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, powellSingularBFGSAnalyticFinite(t)
-}
-
-// powellSingularBFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func powellSingularBFGSAnalyticClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // powellSingularBFGSAnalyticExpandTrial picks a larger trial after current met sufficient decrease

@@ -88,6 +88,9 @@ func PowellSingularBFGSCentralDefaultLimits() PowellSingularBFGSCentralLimits {
 	}
 }
 
+// powellSingularBFGSCentralBox is empty: mgh.toml sets no bounds on PowellSingularBFGSCentral.
+type powellSingularBFGSCentralBox struct{}
+
 // PowellSingularBFGSCentral minimizes PowellSingular from x0, as mgh.toml specifies.
 //
 // Direction bfgs: BFGS quasi-Newton with a dense inverse-Hessian approximation (dim² numbers).
@@ -105,7 +108,7 @@ func PowellSingularBFGSCentral(x0 [4]float64) PowellSingularBFGSCentralResult {
 
 // PowellSingularBFGSCentralWithLimits is PowellSingularBFGSCentral with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func PowellSingularBFGSCentralWithLimits(x0 [4]float64, limits PowellSingularBFGSCentralLimits) PowellSingularBFGSCentralResult {
-	out := powellSingularBFGSCentralMinimize(x0, limits)
+	out := powellSingularBFGSCentralMinimize(x0, limits, powellSingularBFGSCentralBox{})
 	return PowellSingularBFGSCentralResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func powellSingularBFGSCentralMinimize(x0 [4]float64, lim PowellSingularBFGSCentralLimits) powellSingularBFGSCentralOutcome {
-	out := powellSingularBFGSCentralOutcome{x: x0, status: PowellSingularBFGSCentralOutOfEvaluations, gradient: math.NaN()}
+func powellSingularBFGSCentralMinimize(x0 [4]float64, lim PowellSingularBFGSCentralLimits, bounds powellSingularBFGSCentralBox) powellSingularBFGSCentralOutcome {
+	x := x0
+	powellSingularBFGSCentralEnterBox(&x, &bounds)
+	out := powellSingularBFGSCentralOutcome{x: x, status: PowellSingularBFGSCentralOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := PowellSingular(&x)
 	out.f, out.evaluations = fx, 1
 	if !powellSingularBFGSCentralFinite(fx) || !powellSingularBFGSCentralFiniteVec(&x) {
 		out.status = PowellSingularBFGSCentralNonFiniteStart
 		return out
 	}
-	var diffs powellSingularBFGSCentralDifferences
+	diffs := powellSingularBFGSCentralDifferences{bounds: bounds}
 	calls, ok := powellSingularBFGSCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+powellSingularBFGSCentralDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [4]float64
-	powellSingularBFGSCentralDerivative(&x, fx, &g, &diffs)
-	out.evaluations += powellSingularBFGSCentralDerivativeCost
+	out.evaluations += powellSingularBFGSCentralDerivative(&x, fx, &g, &diffs)
 
 	if !powellSingularBFGSCentralFiniteVec(&g) {
 		out.status = PowellSingularBFGSCentralNonFiniteGradient
@@ -211,7 +214,7 @@ func powellSingularBFGSCentralMinimize(x0 [4]float64, lim PowellSingularBFGSCent
 		case !confirmed:
 			powellSingularBFGSCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := powellSingularBFGSCentralGradientMeasure(&g, &e, &x, fx)
+		measure, floor := powellSingularBFGSCentralStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, powellSingularBFGSCentralLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func powellSingularBFGSCentralMinimize(x0 [4]float64, lim PowellSingularBFGSCent
 			if rises >= 8 {
 				return best.ending(PowellSingularBFGSCentralDiverged, out.iterations, out.evaluations)
 			}
+			powellSingularBFGSCentralCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(PowellSingularBFGSCentralOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		powellSingularBFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := powellSingularBFGSCentralDot(&g, &d)
 		if !(now < 0) || !powellSingularBFGSCentralFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			powellSingularBFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = powellSingularBFGSCentralDot(&g, &d)
 		}
 		first := float64(powellSingularBFGSCentralStepInitial)
@@ -267,7 +271,7 @@ func powellSingularBFGSCentralMinimize(x0 [4]float64, lim PowellSingularBFGSCent
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := powellSingularBFGSCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := powellSingularBFGSCentralLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := powellSingularBFGSCentralLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case powellSingularBFGSCentralSearchOutOfBudget:
@@ -303,8 +307,7 @@ func powellSingularBFGSCentralMinimize(x0 [4]float64, lim PowellSingularBFGSCent
 				}
 				return best.ending(PowellSingularBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			powellSingularBFGSCentralDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += powellSingularBFGSCentralDerivativeCost
+			out.evaluations += powellSingularBFGSCentralDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		powellSingularBFGSCentralDifference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o powellSingularBFGSCentralOutcome) ending(end PowellSingularBFGSCentralSt
 	return o
 }
 
+// powellSingularBFGSCentralEnterBox: without bounds every start is inside.
+func powellSingularBFGSCentralEnterBox(x *[4]float64, b *powellSingularBFGSCentralBox) {}
+
 // powellSingularBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func powellSingularBFGSCentralFiniteVec(x *[4]float64) bool {
 	return true
 }
 
-// powellSingularBFGSCentralDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// powellSingularBFGSCentralDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type powellSingularBFGSCentralDifferences struct {
 	ratio     [4]float64
 	curvature [4]float64
 	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see powellSingularBFGSCentralRoundingFloor)
+	bounds    powellSingularBFGSCentralBox
 }
 
 // powellSingularBFGSCentralCalibrate chooses each central-difference interval from the
@@ -397,19 +405,45 @@ func powellSingularBFGSCentralCalibrate(x *[4]float64, fx float64, diffs *powell
 	var slope [4]float64
 	scale := powellSingularBFGSCentralAbs(fx)
 	quarter := powellSingularBFGSCentralSquareRoot(powellSingularBFGSCentralSquareRoot(powellSingularBFGSCentralUnitRoundoff)) // u^(1/4)
+	calls := 0
 	for i := range probe {
-		if 4*(i+1) > budget {
-			return 4 * i, false
+		if calls+4 > budget {
+			return calls, false
 		}
 		xi := probe[i]
 		bar := quarter * powellSingularBFGSCentralLarger(1, powellSingularBFGSCentralAbs(xi))
+		lower, upper := powellSingularBFGSCentralCoordinateRange(i, diffs)
+		if xi+2*bar > upper || xi-2*bar < lower {
+			// At a bound: three probes on the side with room, at h, 2h
+			// and 3h, for f‴ ≈ (f(3h) − 3f(2h) + 3f(h) − f(0))/h³ (the
+			// third forward difference).
+			h := powellSingularBFGSCentralOneSide(xi, bar, 3, lower, upper)
+			if h == 0 {
+				continue // fixed by equal bounds
+			}
+			var f [3]float64
+			for k := range f {
+				probe[i], _ = powellSingularBFGSCentralProbeStep(xi, float64(k+1)*h, lower, upper)
+				f[k] = PowellSingular(&probe)
+				scale = powellSingularBFGSCentralLarger(scale, powellSingularBFGSCentralMagnitude(f[k]))
+			}
+			probe[i] = xi
+			calls += 3
+			if powellSingularBFGSCentralFinite(f[0]) && powellSingularBFGSCentralFinite(f[1]) && powellSingularBFGSCentralFinite(f[2]) {
+				diffs.curvature[i] = powellSingularBFGSCentralAbs(f[2]-3*f[1]+3*f[0]-fx) / powellSingularBFGSCentralAbs(h*h*h)
+				diffs.second[i] = powellSingularBFGSCentralAbs(fx-2*f[0]+f[1]) / (h * h)
+				slope[i] = (-3*fx + 4*f[0] - f[1]) / (2 * h)
+			}
+			continue
+		}
 		var f [4]float64
 		for k, m := range [4]float64{2, 1, -1, -2} {
-			probe[i], _ = powellSingularBFGSCentralProbeStep(xi, m*bar)
+			probe[i], _ = powellSingularBFGSCentralProbeStep(xi, m*bar, lower, upper)
 			f[k] = PowellSingular(&probe)
 			scale = powellSingularBFGSCentralLarger(scale, powellSingularBFGSCentralMagnitude(f[k]))
 		}
 		probe[i] = xi
+		calls += 4
 		if powellSingularBFGSCentralFinite(f[0]) && powellSingularBFGSCentralFinite(f[1]) && powellSingularBFGSCentralFinite(f[2]) && powellSingularBFGSCentralFinite(f[3]) {
 			diffs.curvature[i] = powellSingularBFGSCentralAbs(f[0]-2*f[1]+2*f[2]-f[3]) / (2 * bar * bar * bar)
 			diffs.second[i] = powellSingularBFGSCentralAbs(f[1]-2*fx+f[2]) / (bar * bar)
@@ -428,7 +462,7 @@ func powellSingularBFGSCentralCalibrate(x *[4]float64, fx float64, diffs *powell
 		diffs.ratio[i] = powellSingularBFGSCentralClampBetween(h, 64*powellSingularBFGSCentralUnitRoundoff*s, bar) / s
 		diffs.curvature[i] = third
 	}
-	return 4 * len(probe), true
+	return calls, true
 }
 
 // powellSingularBFGSCentralAbs returns |v|.
@@ -454,10 +488,48 @@ func powellSingularBFGSCentralLarger(a, b float64) float64 {
 	return b
 }
 
-// powellSingularBFGSCentralProbeStep returns x_i moved by h, and the step actually representable.
-func powellSingularBFGSCentralProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// powellSingularBFGSCentralCoordinateRange: without bounds any probe is allowed.
+func powellSingularBFGSCentralCoordinateRange(i int, diffs *powellSingularBFGSCentralDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// powellSingularBFGSCentralOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func powellSingularBFGSCentralOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
+}
+
+// powellSingularBFGSCentralProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func powellSingularBFGSCentralProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := powellSingularBFGSCentralClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// powellSingularBFGSCentralClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func powellSingularBFGSCentralClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
 }
 
 // powellSingularBFGSCentralMagnitude is |v| for a finite v and 0 otherwise: a probe that fell
@@ -493,42 +565,85 @@ func powellSingularBFGSCentralCubeRoot(v float64) float64 {
 	return math.Cbrt(v)
 }
 
-// powellSingularBFGSCentralClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func powellSingularBFGSCentralClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
-}
-
 // powellSingularBFGSCentralDerivative approximates the gradient by central differences,
 //
 //	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),
 //
 // with the intervals powellSingularBFGSCentralCalibrate chose, h_i = ratio_i·max(1, |x_i|)
-// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls; fx is
-// not needed.
-func powellSingularBFGSCentralDerivative(x *[4]float64, fx float64, g *[4]float64, diffs *powellSingularBFGSCentralDifferences) {
+// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls. Where
+// a bound leaves no room on one side, the three-point endpoint formula on
+// the other side takes its place at the same cost (see parabola); a
+// variable fixed by equal bounds costs nothing and gets 0.
+func powellSingularBFGSCentralDerivative(x *[4]float64, fx float64, g *[4]float64, diffs *powellSingularBFGSCentralDifferences) int {
 	probe := *x
+	calls := 0
 	for i := range probe {
 		xi := probe[i]
-		h := diffs.ratio[i] * powellSingularBFGSCentralLarger(1, powellSingularBFGSCentralAbs(xi))
-		up, _ := powellSingularBFGSCentralProbeStep(xi, h)
-		down, _ := powellSingularBFGSCentralProbeStep(xi, -h)
-		probe[i] = up
-		fUp := PowellSingular(&probe)
-		probe[i] = down
-		fDown := PowellSingular(&probe)
-		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
-		probe[i] = xi
+		h, oneSided := powellSingularBFGSCentralCentralInterval(x, i, diffs)
+		lower, upper := powellSingularBFGSCentralCoordinateRange(i, diffs)
+		switch {
+		case h == 0:
+			g[i] = 0 // fixed by equal bounds
+			continue
+		case oneSided:
+			g[i], _, _ = powellSingularBFGSCentralSidedProbes(&probe, i, fx, h, lower, upper) // the three-point endpoint formula
+		default:
+			up, _ := powellSingularBFGSCentralProbeStep(xi, h, lower, upper)
+			down, _ := powellSingularBFGSCentralProbeStep(xi, -h, lower, upper)
+			probe[i] = up
+			fUp := PowellSingular(&probe)
+			probe[i] = down
+			fDown := PowellSingular(&probe)
+			g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+			probe[i] = xi
+		}
+		calls += 2
 	}
+	return calls
+}
+
+// powellSingularBFGSCentralCentralInterval is the interval of coordinate i at x, ratio_i·max(1,
+// |x_i|), and whether the box leaves room for probes on both sides; when
+// it does not, the interval is signed towards the side with room for
+// probes at h and 2h, and shortened where the box is narrower than that
+// (see powellSingularBFGSCentralOneSide).
+func powellSingularBFGSCentralCentralInterval(x *[4]float64, i int, diffs *powellSingularBFGSCentralDifferences) (h float64, oneSided bool) {
+	lower, upper := powellSingularBFGSCentralCoordinateRange(i, diffs)
+	h = diffs.ratio[i] * powellSingularBFGSCentralLarger(1, powellSingularBFGSCentralAbs(x[i]))
+	if x[i]+h <= upper && x[i]-h >= lower {
+		return h, false
+	}
+	return powellSingularBFGSCentralOneSide(x[i], h, 2, lower, upper), true
+}
+
+// powellSingularBFGSCentralSidedProbes evaluates f at x moved along coordinate i by h and by 2h,
+// kept within [lower, upper], and returns the slope and second derivative
+// of the parabola through them and (x, fx) (see parabola), and the larger
+// magnitude of the two values.
+func powellSingularBFGSCentralSidedProbes(probe *[4]float64, i int, fx, h, lower, upper float64) (slope, second, size float64) {
+	xi := probe[i]
+	near, a := powellSingularBFGSCentralProbeStep(xi, h, lower, upper)
+	far, b := powellSingularBFGSCentralProbeStep(xi, 2*h, lower, upper)
+	probe[i] = near
+	fNear := PowellSingular(probe)
+	probe[i] = far
+	fFar := PowellSingular(probe)
+	probe[i] = xi
+	slope, second = powellSingularBFGSCentralParabola(fx, a, fNear, b, fFar)
+	return slope, second, powellSingularBFGSCentralLarger(powellSingularBFGSCentralMagnitude(fNear), powellSingularBFGSCentralMagnitude(fFar))
+}
+
+// powellSingularBFGSCentralParabola returns the first and second derivatives at 0 of the parabola
+// through (0, f0), (a, fa) and (b, fb), for probes on one side of a bound.
+// With b = 2a they are the three-point endpoint formulas
+// f′ ≈ (−3f0 + 4fa − fb)/(2a), error a²|f‴|/3, and
+// f″ ≈ (f0 − 2fa + fb)/a² (Burden & Faires, Numerical Analysis, §4.1
+// and §4.1's second-derivative formulas, from memory); written for unequal
+// a and b, so that the representable steps can be used.
+func powellSingularBFGSCentralParabola(f0, a, fa, b, fb float64) (slope, second float64) {
+	slope = -(a+b)/(a*b)*f0 + b/(a*(b-a))*fa - a/(b*(b-a))*fb
+	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
+	return slope, second
 }
 
 // powellSingularBFGSCentralDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
@@ -668,13 +783,13 @@ func powellSingularBFGSCentralConfirmGradient(x *[4]float64, fx float64, g, e *[
 		wide.ratio[i] *= 2
 	}
 	var doubled [4]float64
-	powellSingularBFGSCentralDerivative(x, fx, g, diffs)
-	powellSingularBFGSCentralDerivative(x, fx, &doubled, &wide)
+	calls += powellSingularBFGSCentralDerivative(x, fx, g, diffs)
+	calls += powellSingularBFGSCentralDerivative(x, fx, &doubled, &wide)
 	powellSingularBFGSCentralGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * powellSingularBFGSCentralAbs(g[i]-doubled[i])
 	}
-	return calls + 2*powellSingularBFGSCentralDerivativeCost, true
+	return calls, true
 }
 
 // powellSingularBFGSCentralGradientError bounds each central difference's error by twice its
@@ -684,8 +799,16 @@ func powellSingularBFGSCentralConfirmGradient(x *[4]float64, fx float64, g, e *[
 func powellSingularBFGSCentralGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *powellSingularBFGSCentralDifferences) {
 	noise := powellSingularBFGSCentralNoiseLevel(x, fx, g)
 	for i := range e {
-		h := diffs.ratio[i] * powellSingularBFGSCentralLarger(1, powellSingularBFGSCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		h, oneSided := powellSingularBFGSCentralCentralInterval(x, i, diffs)
+		h = powellSingularBFGSCentralAbs(h)
+		switch {
+		case h == 0:
+			e[i] = 0 // fixed by equal bounds
+		case oneSided:
+			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+		default:
+			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		}
 	}
 }
 
@@ -707,6 +830,11 @@ func powellSingularBFGSCentralRoundingFloor(x, g, e *[4]float64, diffs *powellSi
 // calibration, which powellSingularBFGSCentralConfirmGradient has just made at x.
 func powellSingularBFGSCentralDiagonalCurvature(x, g *[4]float64, diffs *powellSingularBFGSCentralDifferences, h *[4]float64) {
 	*h = diffs.second
+}
+
+// powellSingularBFGSCentralStationarity measures the gradient itself.
+func powellSingularBFGSCentralStationarity(g, e, x *[4]float64, fx float64, b *powellSingularBFGSCentralBox) (measure, floor float64) {
+	return powellSingularBFGSCentralGradientMeasure(g, e, x, fx)
 }
 
 // powellSingularBFGSCentralGradientMeasure is the scale-free measure
@@ -742,6 +870,14 @@ func powellSingularBFGSCentralStepWithin(s, x *[4]float64, tol float64) bool {
 	return true
 }
 
+// powellSingularBFGSCentralCurvaturePair: without bounds the pair is used as it is.
+func powellSingularBFGSCentralCurvaturePair(s, y, x *[4]float64, b *powellSingularBFGSCentralBox) {}
+
+// powellSingularBFGSCentralSearchDirection is the direction's own.
+func powellSingularBFGSCentralSearchDirection(dir *powellSingularBFGSCentralDirection, x, g, d *[4]float64, b *powellSingularBFGSCentralBox) {
+	dir.compute(g, d)
+}
+
 // powellSingularBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func powellSingularBFGSCentralTinyStep(x, d *[4]float64, tol float64) float64 {
@@ -769,7 +905,10 @@ func powellSingularBFGSCentralTinyStep(x, d *[4]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (powellSingularBFGSCentralStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -778,13 +917,17 @@ func powellSingularBFGSCentralTinyStep(x, d *[4]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func powellSingularBFGSCentralLineSearch(x *[4]float64, fx float64, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *powellSingularBFGSCentralDifferences) powellSingularBFGSCentralLineResult {
+func powellSingularBFGSCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *powellSingularBFGSCentralDifferences) powellSingularBFGSCentralLineResult {
 	low := powellSingularBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high powellSingularBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                         // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend powellSingularBFGSCentralRiseTrend // of the trials failing sufficient decrease
+	var trend powellSingularBFGSCentralRiseTrend                         // of the trials failing sufficient decrease
+	limit := powellSingularBFGSCentralStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < powellSingularBFGSCentralStepTrials; trial++ {
 		if bracketed && powellSingularBFGSCentralAbs(high.step-low.step) <= tiny {
@@ -794,12 +937,12 @@ func powellSingularBFGSCentralLineSearch(x *[4]float64, fx float64, d *[4]float6
 			if low.step == 0 {
 				return powellSingularBFGSCentralLineResult{calls: calls, rising: trend.contradicts(), end: powellSingularBFGSCentralTinyOrExhausted(powellSingularBFGSCentralFinite(high.value))}
 			}
-			return powellSingularBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return powellSingularBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return powellSingularBFGSCentralLineResult{calls: calls, end: powellSingularBFGSCentralSearchOutOfBudget}
 		}
-		powellSingularBFGSCentralMoveTo(xt, x, t, d)
+		powellSingularBFGSCentralTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := powellSingularBFGSCentralLinePoint{step: t, value: PowellSingular(xt)}
 		calls++
 		previous := low
@@ -810,8 +953,7 @@ func powellSingularBFGSCentralLineSearch(x *[4]float64, fx float64, d *[4]float6
 			if calls+powellSingularBFGSCentralDerivativeCost > budget {
 				return powellSingularBFGSCentralLineResult{calls: calls, end: powellSingularBFGSCentralSearchOutOfBudget}
 			}
-			powellSingularBFGSCentralDerivative(xt, current.value, gt, diffs)
-			calls += powellSingularBFGSCentralDerivativeCost
+			calls += powellSingularBFGSCentralDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = powellSingularBFGSCentralDot(gt, d), true
 			switch {
 			case !powellSingularBFGSCentralFinite(current.slope):
@@ -822,18 +964,22 @@ func powellSingularBFGSCentralLineSearch(x *[4]float64, fx float64, d *[4]float6
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return powellSingularBFGSCentralLineResult{step: t, value: current.value, calls: calls, gradient: true, end: powellSingularBFGSCentralSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = powellSingularBFGSCentralZoomTrial(&low, &high)
-		} else {
-			t = powellSingularBFGSCentralExpandTrial(&previous, &current)
+		} else if t = powellSingularBFGSCentralExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return powellSingularBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return powellSingularBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return powellSingularBFGSCentralLineResult{calls: calls, rising: trend.contradicts(), end: powellSingularBFGSCentralSearchExhausted}
 }
@@ -920,6 +1066,11 @@ func powellSingularBFGSCentralFaithfulStep(x, xt, d *[4]float64, t float64) bool
 	return true
 }
 
+// powellSingularBFGSCentralStepCap: without bounds a step may be as long as the search wants.
+func powellSingularBFGSCentralStepCap(x, d *[4]float64, tiny float64, b *powellSingularBFGSCentralBox) float64 {
+	return math.Inf(1)
+}
+
 // powellSingularBFGSCentralTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -944,10 +1095,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func powellSingularBFGSCentralAcceptLow(x, d *[4]float64, low *powellSingularBFGSCentralLinePoint, lowGradient *[4]float64, calls int, xt, gt *[4]float64) powellSingularBFGSCentralLineResult {
-	powellSingularBFGSCentralMoveTo(xt, x, low.step, d)
+func powellSingularBFGSCentralAcceptLow(x, d *[4]float64, low *powellSingularBFGSCentralLinePoint, lowGradient *[4]float64, calls int, xt, gt *[4]float64, diffs *powellSingularBFGSCentralDifferences) powellSingularBFGSCentralLineResult {
+	powellSingularBFGSCentralTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return powellSingularBFGSCentralLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: powellSingularBFGSCentralSearchAccepted}
+}
+
+// powellSingularBFGSCentralTrialPoint is x + t·d.
+func powellSingularBFGSCentralTrialPoint(out, x *[4]float64, t float64, d *[4]float64, b *powellSingularBFGSCentralBox) {
+	powellSingularBFGSCentralMoveTo(out, x, t, d)
 }
 
 // powellSingularBFGSCentralMoveTo sets out = x + t·d.

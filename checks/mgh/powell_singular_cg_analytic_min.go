@@ -88,6 +88,9 @@ func PowellSingularCGAnalyticDefaultLimits() PowellSingularCGAnalyticLimits {
 	}
 }
 
+// powellSingularCGAnalyticBox is empty: mgh.toml sets no bounds on PowellSingularCGAnalytic.
+type powellSingularCGAnalyticBox struct{}
+
 // PowellSingularCGAnalytic minimizes PowellSingular from x0, as mgh.toml specifies.
 //
 // Direction cg: nonlinear conjugate gradients, Polak–Ribière clipped at zero (PR+), restarted every dim steps.
@@ -105,7 +108,7 @@ func PowellSingularCGAnalytic(x0 [4]float64) PowellSingularCGAnalyticResult {
 
 // PowellSingularCGAnalyticWithLimits is PowellSingularCGAnalytic with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func PowellSingularCGAnalyticWithLimits(x0 [4]float64, limits PowellSingularCGAnalyticLimits) PowellSingularCGAnalyticResult {
-	out := powellSingularCGAnalyticMinimize(x0, limits)
+	out := powellSingularCGAnalyticMinimize(x0, limits, powellSingularCGAnalyticBox{})
 	return PowellSingularCGAnalyticResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func powellSingularCGAnalyticMinimize(x0 [4]float64, lim PowellSingularCGAnalyticLimits) powellSingularCGAnalyticOutcome {
-	out := powellSingularCGAnalyticOutcome{x: x0, status: PowellSingularCGAnalyticOutOfEvaluations, gradient: math.NaN()}
+func powellSingularCGAnalyticMinimize(x0 [4]float64, lim PowellSingularCGAnalyticLimits, bounds powellSingularCGAnalyticBox) powellSingularCGAnalyticOutcome {
+	x := x0
+	powellSingularCGAnalyticEnterBox(&x, &bounds)
+	out := powellSingularCGAnalyticOutcome{x: x, status: PowellSingularCGAnalyticOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := PowellSingular(&x)
 	out.f, out.evaluations = fx, 1
 	if !powellSingularCGAnalyticFinite(fx) || !powellSingularCGAnalyticFiniteVec(&x) {
 		out.status = PowellSingularCGAnalyticNonFiniteStart
 		return out
 	}
-	var diffs powellSingularCGAnalyticDifferences
+	diffs := powellSingularCGAnalyticDifferences{bounds: bounds}
 	calls, ok := powellSingularCGAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+powellSingularCGAnalyticDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [4]float64
-	powellSingularCGAnalyticDerivative(&x, fx, &g, &diffs)
-	out.evaluations += powellSingularCGAnalyticDerivativeCost
+	out.evaluations += powellSingularCGAnalyticDerivative(&x, fx, &g, &diffs)
 
 	if !powellSingularCGAnalyticFiniteVec(&g) {
 		out.status = PowellSingularCGAnalyticNonFiniteGradient
@@ -211,7 +214,7 @@ func powellSingularCGAnalyticMinimize(x0 [4]float64, lim PowellSingularCGAnalyti
 		case !confirmed:
 			powellSingularCGAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := powellSingularCGAnalyticGradientMeasure(&g, &e, &x, fx)
+		measure, floor := powellSingularCGAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, powellSingularCGAnalyticLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func powellSingularCGAnalyticMinimize(x0 [4]float64, lim PowellSingularCGAnalyti
 			if rises >= 8 {
 				return best.ending(PowellSingularCGAnalyticDiverged, out.iterations, out.evaluations)
 			}
+			powellSingularCGAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(PowellSingularCGAnalyticOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		powellSingularCGAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := powellSingularCGAnalyticDot(&g, &d)
 		if !(now < 0) || !powellSingularCGAnalyticFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			powellSingularCGAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = powellSingularCGAnalyticDot(&g, &d)
 		}
 		first := float64(powellSingularCGAnalyticStepInitial)
@@ -267,7 +271,7 @@ func powellSingularCGAnalyticMinimize(x0 [4]float64, lim PowellSingularCGAnalyti
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := powellSingularCGAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := powellSingularCGAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := powellSingularCGAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case powellSingularCGAnalyticSearchOutOfBudget:
@@ -303,8 +307,7 @@ func powellSingularCGAnalyticMinimize(x0 [4]float64, lim PowellSingularCGAnalyti
 				}
 				return best.ending(PowellSingularCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			powellSingularCGAnalyticDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += powellSingularCGAnalyticDerivativeCost
+			out.evaluations += powellSingularCGAnalyticDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		powellSingularCGAnalyticDifference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o powellSingularCGAnalyticOutcome) ending(end PowellSingularCGAnalyticStat
 	return o
 }
 
+// powellSingularCGAnalyticEnterBox: without bounds every start is inside.
+func powellSingularCGAnalyticEnterBox(x *[4]float64, b *powellSingularCGAnalyticBox) {}
+
 // powellSingularCGAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func powellSingularCGAnalyticFiniteVec(x *[4]float64) bool {
 	return true
 }
 
-// powellSingularCGAnalyticDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// powellSingularCGAnalyticDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type powellSingularCGAnalyticDifferences struct {
 	ratio     [4]float64
 	curvature [4]float64
 	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see powellSingularCGAnalyticRoundingFloor)
+	bounds    powellSingularCGAnalyticBox
 }
 
 // powellSingularCGAnalyticCalibrate: an analytic gradient needs no intervals.
@@ -384,8 +392,9 @@ func powellSingularCGAnalyticCalibrate(x *[4]float64, fx float64, diffs *powellS
 }
 
 // powellSingularCGAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func powellSingularCGAnalyticDerivative(x *[4]float64, fx float64, g *[4]float64, diffs *powellSingularCGAnalyticDifferences) {
+func powellSingularCGAnalyticDerivative(x *[4]float64, fx float64, g *[4]float64, diffs *powellSingularCGAnalyticDifferences) int {
 	PowellSingularGrad(x, g)
+	return 0
 }
 
 // powellSingularCGAnalyticDirection is nonlinear conjugate gradients with the Polak–Ribière
@@ -517,13 +526,13 @@ func powellSingularCGAnalyticConfirmGradient(x *[4]float64, fx float64, g, e *[4
 		wide.ratio[i] *= 2
 	}
 	var doubled [4]float64
-	powellSingularCGAnalyticDerivative(x, fx, g, diffs)
-	powellSingularCGAnalyticDerivative(x, fx, &doubled, &wide)
+	calls += powellSingularCGAnalyticDerivative(x, fx, g, diffs)
+	calls += powellSingularCGAnalyticDerivative(x, fx, &doubled, &wide)
 	powellSingularCGAnalyticGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * powellSingularCGAnalyticAbs(g[i]-doubled[i])
 	}
-	return calls + 2*powellSingularCGAnalyticDerivativeCost, true
+	return calls, true
 }
 
 // powellSingularCGAnalyticGradientError: the analytic gradient is taken as exact; its error is
@@ -565,23 +574,70 @@ func powellSingularCGAnalyticDiagonalCurvature(x, g *[4]float64, diffs *powellSi
 	var moved [4]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := powellSingularCGAnalyticProbeStep(xi, powellSingularCGAnalyticSquareRoot(powellSingularCGAnalyticUnitRoundoff)*powellSingularCGAnalyticLarger(1, powellSingularCGAnalyticAbs(xi)))
-		probe[i] = up
-		PowellSingularGrad(&probe, &moved)
-		h[i] = powellSingularCGAnalyticAbs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := powellSingularCGAnalyticCoordinateRange(i, diffs)
+		up, delta := powellSingularCGAnalyticProbeStep(xi, powellSingularCGAnalyticOneSide(xi, powellSingularCGAnalyticSquareRoot(powellSingularCGAnalyticUnitRoundoff)*powellSingularCGAnalyticLarger(1, powellSingularCGAnalyticAbs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			PowellSingularGrad(&probe, &moved)
+			h[i] = powellSingularCGAnalyticAbs(moved[i]-g[i]) / powellSingularCGAnalyticAbs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// powellSingularCGAnalyticProbeStep returns x_i moved by h, and the step actually representable.
-func powellSingularCGAnalyticProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// powellSingularCGAnalyticCoordinateRange: without bounds any probe is allowed.
+func powellSingularCGAnalyticCoordinateRange(i int, diffs *powellSingularCGAnalyticDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// powellSingularCGAnalyticProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func powellSingularCGAnalyticProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := powellSingularCGAnalyticClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// powellSingularCGAnalyticClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func powellSingularCGAnalyticClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// powellSingularCGAnalyticOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func powellSingularCGAnalyticOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // powellSingularCGAnalyticSquareRoot returns √v.
 func powellSingularCGAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// powellSingularCGAnalyticStationarity measures the gradient itself.
+func powellSingularCGAnalyticStationarity(g, e, x *[4]float64, fx float64, b *powellSingularCGAnalyticBox) (measure, floor float64) {
+	return powellSingularCGAnalyticGradientMeasure(g, e, x, fx)
 }
 
 // powellSingularCGAnalyticGradientMeasure is the scale-free measure
@@ -617,6 +673,14 @@ func powellSingularCGAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
 	return true
 }
 
+// powellSingularCGAnalyticCurvaturePair: without bounds the pair is used as it is.
+func powellSingularCGAnalyticCurvaturePair(s, y, x *[4]float64, b *powellSingularCGAnalyticBox) {}
+
+// powellSingularCGAnalyticSearchDirection is the direction's own.
+func powellSingularCGAnalyticSearchDirection(dir *powellSingularCGAnalyticDirection, x, g, d *[4]float64, b *powellSingularCGAnalyticBox) {
+	dir.compute(g, d)
+}
+
 // powellSingularCGAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func powellSingularCGAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
@@ -644,7 +708,10 @@ func powellSingularCGAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (powellSingularCGAnalyticStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -653,13 +720,17 @@ func powellSingularCGAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func powellSingularCGAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *powellSingularCGAnalyticDifferences) powellSingularCGAnalyticLineResult {
+func powellSingularCGAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *powellSingularCGAnalyticDifferences) powellSingularCGAnalyticLineResult {
 	low := powellSingularCGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high powellSingularCGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                        // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend powellSingularCGAnalyticRiseTrend // of the trials failing sufficient decrease
+	var trend powellSingularCGAnalyticRiseTrend                         // of the trials failing sufficient decrease
+	limit := powellSingularCGAnalyticStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < powellSingularCGAnalyticStepTrials; trial++ {
 		if bracketed && powellSingularCGAnalyticAbs(high.step-low.step) <= tiny {
@@ -669,12 +740,12 @@ func powellSingularCGAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64
 			if low.step == 0 {
 				return powellSingularCGAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: powellSingularCGAnalyticTinyOrExhausted(powellSingularCGAnalyticFinite(high.value))}
 			}
-			return powellSingularCGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return powellSingularCGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return powellSingularCGAnalyticLineResult{calls: calls, end: powellSingularCGAnalyticSearchOutOfBudget}
 		}
-		powellSingularCGAnalyticMoveTo(xt, x, t, d)
+		powellSingularCGAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := powellSingularCGAnalyticLinePoint{step: t, value: PowellSingular(xt)}
 		calls++
 		previous := low
@@ -685,8 +756,7 @@ func powellSingularCGAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64
 			if calls+powellSingularCGAnalyticDerivativeCost > budget {
 				return powellSingularCGAnalyticLineResult{calls: calls, end: powellSingularCGAnalyticSearchOutOfBudget}
 			}
-			powellSingularCGAnalyticDerivative(xt, current.value, gt, diffs)
-			calls += powellSingularCGAnalyticDerivativeCost
+			calls += powellSingularCGAnalyticDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = powellSingularCGAnalyticDot(gt, d), true
 			switch {
 			case !powellSingularCGAnalyticFinite(current.slope):
@@ -697,18 +767,22 @@ func powellSingularCGAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return powellSingularCGAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: powellSingularCGAnalyticSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = powellSingularCGAnalyticZoomTrial(&low, &high)
-		} else {
-			t = powellSingularCGAnalyticExpandTrial(&previous, &current)
+		} else if t = powellSingularCGAnalyticExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return powellSingularCGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return powellSingularCGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return powellSingularCGAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: powellSingularCGAnalyticSearchExhausted}
 }
@@ -795,6 +869,11 @@ func powellSingularCGAnalyticFaithfulStep(x, xt, d *[4]float64, t float64) bool 
 	return true
 }
 
+// powellSingularCGAnalyticStepCap: without bounds a step may be as long as the search wants.
+func powellSingularCGAnalyticStepCap(x, d *[4]float64, tiny float64, b *powellSingularCGAnalyticBox) float64 {
+	return math.Inf(1)
+}
+
 // powellSingularCGAnalyticTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -819,10 +898,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func powellSingularCGAnalyticAcceptLow(x, d *[4]float64, low *powellSingularCGAnalyticLinePoint, lowGradient *[4]float64, calls int, xt, gt *[4]float64) powellSingularCGAnalyticLineResult {
-	powellSingularCGAnalyticMoveTo(xt, x, low.step, d)
+func powellSingularCGAnalyticAcceptLow(x, d *[4]float64, low *powellSingularCGAnalyticLinePoint, lowGradient *[4]float64, calls int, xt, gt *[4]float64, diffs *powellSingularCGAnalyticDifferences) powellSingularCGAnalyticLineResult {
+	powellSingularCGAnalyticTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return powellSingularCGAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: powellSingularCGAnalyticSearchAccepted}
+}
+
+// powellSingularCGAnalyticTrialPoint is x + t·d.
+func powellSingularCGAnalyticTrialPoint(out, x *[4]float64, t float64, d *[4]float64, b *powellSingularCGAnalyticBox) {
+	powellSingularCGAnalyticMoveTo(out, x, t, d)
 }
 
 // powellSingularCGAnalyticMoveTo sets out = x + t·d.
@@ -877,21 +961,6 @@ func powellSingularCGAnalyticModelMinimizer(a, b *powellSingularCGAnalyticLinePo
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, powellSingularCGAnalyticFinite(t)
-}
-
-// powellSingularCGAnalyticClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func powellSingularCGAnalyticClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // powellSingularCGAnalyticExpandTrial picks a larger trial after current met sufficient decrease

@@ -88,6 +88,9 @@ func PowellSingularCGCentralDefaultLimits() PowellSingularCGCentralLimits {
 	}
 }
 
+// powellSingularCGCentralBox is empty: mgh.toml sets no bounds on PowellSingularCGCentral.
+type powellSingularCGCentralBox struct{}
+
 // PowellSingularCGCentral minimizes PowellSingular from x0, as mgh.toml specifies.
 //
 // Direction cg: nonlinear conjugate gradients, Polak–Ribière clipped at zero (PR+), restarted every dim steps.
@@ -105,7 +108,7 @@ func PowellSingularCGCentral(x0 [4]float64) PowellSingularCGCentralResult {
 
 // PowellSingularCGCentralWithLimits is PowellSingularCGCentral with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func PowellSingularCGCentralWithLimits(x0 [4]float64, limits PowellSingularCGCentralLimits) PowellSingularCGCentralResult {
-	out := powellSingularCGCentralMinimize(x0, limits)
+	out := powellSingularCGCentralMinimize(x0, limits, powellSingularCGCentralBox{})
 	return PowellSingularCGCentralResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func powellSingularCGCentralMinimize(x0 [4]float64, lim PowellSingularCGCentralLimits) powellSingularCGCentralOutcome {
-	out := powellSingularCGCentralOutcome{x: x0, status: PowellSingularCGCentralOutOfEvaluations, gradient: math.NaN()}
+func powellSingularCGCentralMinimize(x0 [4]float64, lim PowellSingularCGCentralLimits, bounds powellSingularCGCentralBox) powellSingularCGCentralOutcome {
+	x := x0
+	powellSingularCGCentralEnterBox(&x, &bounds)
+	out := powellSingularCGCentralOutcome{x: x, status: PowellSingularCGCentralOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := PowellSingular(&x)
 	out.f, out.evaluations = fx, 1
 	if !powellSingularCGCentralFinite(fx) || !powellSingularCGCentralFiniteVec(&x) {
 		out.status = PowellSingularCGCentralNonFiniteStart
 		return out
 	}
-	var diffs powellSingularCGCentralDifferences
+	diffs := powellSingularCGCentralDifferences{bounds: bounds}
 	calls, ok := powellSingularCGCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+powellSingularCGCentralDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [4]float64
-	powellSingularCGCentralDerivative(&x, fx, &g, &diffs)
-	out.evaluations += powellSingularCGCentralDerivativeCost
+	out.evaluations += powellSingularCGCentralDerivative(&x, fx, &g, &diffs)
 
 	if !powellSingularCGCentralFiniteVec(&g) {
 		out.status = PowellSingularCGCentralNonFiniteGradient
@@ -211,7 +214,7 @@ func powellSingularCGCentralMinimize(x0 [4]float64, lim PowellSingularCGCentralL
 		case !confirmed:
 			powellSingularCGCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := powellSingularCGCentralGradientMeasure(&g, &e, &x, fx)
+		measure, floor := powellSingularCGCentralStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, powellSingularCGCentralLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func powellSingularCGCentralMinimize(x0 [4]float64, lim PowellSingularCGCentralL
 			if rises >= 8 {
 				return best.ending(PowellSingularCGCentralDiverged, out.iterations, out.evaluations)
 			}
+			powellSingularCGCentralCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(PowellSingularCGCentralOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		powellSingularCGCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := powellSingularCGCentralDot(&g, &d)
 		if !(now < 0) || !powellSingularCGCentralFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			powellSingularCGCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = powellSingularCGCentralDot(&g, &d)
 		}
 		first := float64(powellSingularCGCentralStepInitial)
@@ -267,7 +271,7 @@ func powellSingularCGCentralMinimize(x0 [4]float64, lim PowellSingularCGCentralL
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := powellSingularCGCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := powellSingularCGCentralLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := powellSingularCGCentralLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case powellSingularCGCentralSearchOutOfBudget:
@@ -303,8 +307,7 @@ func powellSingularCGCentralMinimize(x0 [4]float64, lim PowellSingularCGCentralL
 				}
 				return best.ending(PowellSingularCGCentralOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			powellSingularCGCentralDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += powellSingularCGCentralDerivativeCost
+			out.evaluations += powellSingularCGCentralDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		powellSingularCGCentralDifference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o powellSingularCGCentralOutcome) ending(end PowellSingularCGCentralStatus
 	return o
 }
 
+// powellSingularCGCentralEnterBox: without bounds every start is inside.
+func powellSingularCGCentralEnterBox(x *[4]float64, b *powellSingularCGCentralBox) {}
+
 // powellSingularCGCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func powellSingularCGCentralFiniteVec(x *[4]float64) bool {
 	return true
 }
 
-// powellSingularCGCentralDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// powellSingularCGCentralDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type powellSingularCGCentralDifferences struct {
 	ratio     [4]float64
 	curvature [4]float64
 	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see powellSingularCGCentralRoundingFloor)
+	bounds    powellSingularCGCentralBox
 }
 
 // powellSingularCGCentralCalibrate chooses each central-difference interval from the
@@ -397,19 +405,45 @@ func powellSingularCGCentralCalibrate(x *[4]float64, fx float64, diffs *powellSi
 	var slope [4]float64
 	scale := powellSingularCGCentralAbs(fx)
 	quarter := powellSingularCGCentralSquareRoot(powellSingularCGCentralSquareRoot(powellSingularCGCentralUnitRoundoff)) // u^(1/4)
+	calls := 0
 	for i := range probe {
-		if 4*(i+1) > budget {
-			return 4 * i, false
+		if calls+4 > budget {
+			return calls, false
 		}
 		xi := probe[i]
 		bar := quarter * powellSingularCGCentralLarger(1, powellSingularCGCentralAbs(xi))
+		lower, upper := powellSingularCGCentralCoordinateRange(i, diffs)
+		if xi+2*bar > upper || xi-2*bar < lower {
+			// At a bound: three probes on the side with room, at h, 2h
+			// and 3h, for f‴ ≈ (f(3h) − 3f(2h) + 3f(h) − f(0))/h³ (the
+			// third forward difference).
+			h := powellSingularCGCentralOneSide(xi, bar, 3, lower, upper)
+			if h == 0 {
+				continue // fixed by equal bounds
+			}
+			var f [3]float64
+			for k := range f {
+				probe[i], _ = powellSingularCGCentralProbeStep(xi, float64(k+1)*h, lower, upper)
+				f[k] = PowellSingular(&probe)
+				scale = powellSingularCGCentralLarger(scale, powellSingularCGCentralMagnitude(f[k]))
+			}
+			probe[i] = xi
+			calls += 3
+			if powellSingularCGCentralFinite(f[0]) && powellSingularCGCentralFinite(f[1]) && powellSingularCGCentralFinite(f[2]) {
+				diffs.curvature[i] = powellSingularCGCentralAbs(f[2]-3*f[1]+3*f[0]-fx) / powellSingularCGCentralAbs(h*h*h)
+				diffs.second[i] = powellSingularCGCentralAbs(fx-2*f[0]+f[1]) / (h * h)
+				slope[i] = (-3*fx + 4*f[0] - f[1]) / (2 * h)
+			}
+			continue
+		}
 		var f [4]float64
 		for k, m := range [4]float64{2, 1, -1, -2} {
-			probe[i], _ = powellSingularCGCentralProbeStep(xi, m*bar)
+			probe[i], _ = powellSingularCGCentralProbeStep(xi, m*bar, lower, upper)
 			f[k] = PowellSingular(&probe)
 			scale = powellSingularCGCentralLarger(scale, powellSingularCGCentralMagnitude(f[k]))
 		}
 		probe[i] = xi
+		calls += 4
 		if powellSingularCGCentralFinite(f[0]) && powellSingularCGCentralFinite(f[1]) && powellSingularCGCentralFinite(f[2]) && powellSingularCGCentralFinite(f[3]) {
 			diffs.curvature[i] = powellSingularCGCentralAbs(f[0]-2*f[1]+2*f[2]-f[3]) / (2 * bar * bar * bar)
 			diffs.second[i] = powellSingularCGCentralAbs(f[1]-2*fx+f[2]) / (bar * bar)
@@ -428,7 +462,7 @@ func powellSingularCGCentralCalibrate(x *[4]float64, fx float64, diffs *powellSi
 		diffs.ratio[i] = powellSingularCGCentralClampBetween(h, 64*powellSingularCGCentralUnitRoundoff*s, bar) / s
 		diffs.curvature[i] = third
 	}
-	return 4 * len(probe), true
+	return calls, true
 }
 
 // powellSingularCGCentralAbs returns |v|.
@@ -454,10 +488,48 @@ func powellSingularCGCentralLarger(a, b float64) float64 {
 	return b
 }
 
-// powellSingularCGCentralProbeStep returns x_i moved by h, and the step actually representable.
-func powellSingularCGCentralProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// powellSingularCGCentralCoordinateRange: without bounds any probe is allowed.
+func powellSingularCGCentralCoordinateRange(i int, diffs *powellSingularCGCentralDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// powellSingularCGCentralOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func powellSingularCGCentralOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
+}
+
+// powellSingularCGCentralProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func powellSingularCGCentralProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := powellSingularCGCentralClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// powellSingularCGCentralClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func powellSingularCGCentralClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
 }
 
 // powellSingularCGCentralMagnitude is |v| for a finite v and 0 otherwise: a probe that fell
@@ -493,42 +565,85 @@ func powellSingularCGCentralCubeRoot(v float64) float64 {
 	return math.Cbrt(v)
 }
 
-// powellSingularCGCentralClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func powellSingularCGCentralClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
-}
-
 // powellSingularCGCentralDerivative approximates the gradient by central differences,
 //
 //	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),
 //
 // with the intervals powellSingularCGCentralCalibrate chose, h_i = ratio_i·max(1, |x_i|)
-// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls; fx is
-// not needed.
-func powellSingularCGCentralDerivative(x *[4]float64, fx float64, g *[4]float64, diffs *powellSingularCGCentralDifferences) {
+// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls. Where
+// a bound leaves no room on one side, the three-point endpoint formula on
+// the other side takes its place at the same cost (see parabola); a
+// variable fixed by equal bounds costs nothing and gets 0.
+func powellSingularCGCentralDerivative(x *[4]float64, fx float64, g *[4]float64, diffs *powellSingularCGCentralDifferences) int {
 	probe := *x
+	calls := 0
 	for i := range probe {
 		xi := probe[i]
-		h := diffs.ratio[i] * powellSingularCGCentralLarger(1, powellSingularCGCentralAbs(xi))
-		up, _ := powellSingularCGCentralProbeStep(xi, h)
-		down, _ := powellSingularCGCentralProbeStep(xi, -h)
-		probe[i] = up
-		fUp := PowellSingular(&probe)
-		probe[i] = down
-		fDown := PowellSingular(&probe)
-		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
-		probe[i] = xi
+		h, oneSided := powellSingularCGCentralCentralInterval(x, i, diffs)
+		lower, upper := powellSingularCGCentralCoordinateRange(i, diffs)
+		switch {
+		case h == 0:
+			g[i] = 0 // fixed by equal bounds
+			continue
+		case oneSided:
+			g[i], _, _ = powellSingularCGCentralSidedProbes(&probe, i, fx, h, lower, upper) // the three-point endpoint formula
+		default:
+			up, _ := powellSingularCGCentralProbeStep(xi, h, lower, upper)
+			down, _ := powellSingularCGCentralProbeStep(xi, -h, lower, upper)
+			probe[i] = up
+			fUp := PowellSingular(&probe)
+			probe[i] = down
+			fDown := PowellSingular(&probe)
+			g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+			probe[i] = xi
+		}
+		calls += 2
 	}
+	return calls
+}
+
+// powellSingularCGCentralCentralInterval is the interval of coordinate i at x, ratio_i·max(1,
+// |x_i|), and whether the box leaves room for probes on both sides; when
+// it does not, the interval is signed towards the side with room for
+// probes at h and 2h, and shortened where the box is narrower than that
+// (see powellSingularCGCentralOneSide).
+func powellSingularCGCentralCentralInterval(x *[4]float64, i int, diffs *powellSingularCGCentralDifferences) (h float64, oneSided bool) {
+	lower, upper := powellSingularCGCentralCoordinateRange(i, diffs)
+	h = diffs.ratio[i] * powellSingularCGCentralLarger(1, powellSingularCGCentralAbs(x[i]))
+	if x[i]+h <= upper && x[i]-h >= lower {
+		return h, false
+	}
+	return powellSingularCGCentralOneSide(x[i], h, 2, lower, upper), true
+}
+
+// powellSingularCGCentralSidedProbes evaluates f at x moved along coordinate i by h and by 2h,
+// kept within [lower, upper], and returns the slope and second derivative
+// of the parabola through them and (x, fx) (see parabola), and the larger
+// magnitude of the two values.
+func powellSingularCGCentralSidedProbes(probe *[4]float64, i int, fx, h, lower, upper float64) (slope, second, size float64) {
+	xi := probe[i]
+	near, a := powellSingularCGCentralProbeStep(xi, h, lower, upper)
+	far, b := powellSingularCGCentralProbeStep(xi, 2*h, lower, upper)
+	probe[i] = near
+	fNear := PowellSingular(probe)
+	probe[i] = far
+	fFar := PowellSingular(probe)
+	probe[i] = xi
+	slope, second = powellSingularCGCentralParabola(fx, a, fNear, b, fFar)
+	return slope, second, powellSingularCGCentralLarger(powellSingularCGCentralMagnitude(fNear), powellSingularCGCentralMagnitude(fFar))
+}
+
+// powellSingularCGCentralParabola returns the first and second derivatives at 0 of the parabola
+// through (0, f0), (a, fa) and (b, fb), for probes on one side of a bound.
+// With b = 2a they are the three-point endpoint formulas
+// f′ ≈ (−3f0 + 4fa − fb)/(2a), error a²|f‴|/3, and
+// f″ ≈ (f0 − 2fa + fb)/a² (Burden & Faires, Numerical Analysis, §4.1
+// and §4.1's second-derivative formulas, from memory); written for unequal
+// a and b, so that the representable steps can be used.
+func powellSingularCGCentralParabola(f0, a, fa, b, fb float64) (slope, second float64) {
+	slope = -(a+b)/(a*b)*f0 + b/(a*(b-a))*fa - a/(b*(b-a))*fb
+	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
+	return slope, second
 }
 
 // powellSingularCGCentralDirection is nonlinear conjugate gradients with the Polak–Ribière
@@ -650,13 +765,13 @@ func powellSingularCGCentralConfirmGradient(x *[4]float64, fx float64, g, e *[4]
 		wide.ratio[i] *= 2
 	}
 	var doubled [4]float64
-	powellSingularCGCentralDerivative(x, fx, g, diffs)
-	powellSingularCGCentralDerivative(x, fx, &doubled, &wide)
+	calls += powellSingularCGCentralDerivative(x, fx, g, diffs)
+	calls += powellSingularCGCentralDerivative(x, fx, &doubled, &wide)
 	powellSingularCGCentralGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * powellSingularCGCentralAbs(g[i]-doubled[i])
 	}
-	return calls + 2*powellSingularCGCentralDerivativeCost, true
+	return calls, true
 }
 
 // powellSingularCGCentralGradientError bounds each central difference's error by twice its
@@ -666,8 +781,16 @@ func powellSingularCGCentralConfirmGradient(x *[4]float64, fx float64, g, e *[4]
 func powellSingularCGCentralGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *powellSingularCGCentralDifferences) {
 	noise := powellSingularCGCentralNoiseLevel(x, fx, g)
 	for i := range e {
-		h := diffs.ratio[i] * powellSingularCGCentralLarger(1, powellSingularCGCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		h, oneSided := powellSingularCGCentralCentralInterval(x, i, diffs)
+		h = powellSingularCGCentralAbs(h)
+		switch {
+		case h == 0:
+			e[i] = 0 // fixed by equal bounds
+		case oneSided:
+			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+		default:
+			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		}
 	}
 }
 
@@ -689,6 +812,11 @@ func powellSingularCGCentralRoundingFloor(x, g, e *[4]float64, diffs *powellSing
 // calibration, which powellSingularCGCentralConfirmGradient has just made at x.
 func powellSingularCGCentralDiagonalCurvature(x, g *[4]float64, diffs *powellSingularCGCentralDifferences, h *[4]float64) {
 	*h = diffs.second
+}
+
+// powellSingularCGCentralStationarity measures the gradient itself.
+func powellSingularCGCentralStationarity(g, e, x *[4]float64, fx float64, b *powellSingularCGCentralBox) (measure, floor float64) {
+	return powellSingularCGCentralGradientMeasure(g, e, x, fx)
 }
 
 // powellSingularCGCentralGradientMeasure is the scale-free measure
@@ -724,6 +852,14 @@ func powellSingularCGCentralStepWithin(s, x *[4]float64, tol float64) bool {
 	return true
 }
 
+// powellSingularCGCentralCurvaturePair: without bounds the pair is used as it is.
+func powellSingularCGCentralCurvaturePair(s, y, x *[4]float64, b *powellSingularCGCentralBox) {}
+
+// powellSingularCGCentralSearchDirection is the direction's own.
+func powellSingularCGCentralSearchDirection(dir *powellSingularCGCentralDirection, x, g, d *[4]float64, b *powellSingularCGCentralBox) {
+	dir.compute(g, d)
+}
+
 // powellSingularCGCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func powellSingularCGCentralTinyStep(x, d *[4]float64, tol float64) float64 {
@@ -751,7 +887,10 @@ func powellSingularCGCentralTinyStep(x, d *[4]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (powellSingularCGCentralStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -760,13 +899,17 @@ func powellSingularCGCentralTinyStep(x, d *[4]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func powellSingularCGCentralLineSearch(x *[4]float64, fx float64, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *powellSingularCGCentralDifferences) powellSingularCGCentralLineResult {
+func powellSingularCGCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *powellSingularCGCentralDifferences) powellSingularCGCentralLineResult {
 	low := powellSingularCGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high powellSingularCGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                       // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend powellSingularCGCentralRiseTrend // of the trials failing sufficient decrease
+	var trend powellSingularCGCentralRiseTrend                         // of the trials failing sufficient decrease
+	limit := powellSingularCGCentralStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < powellSingularCGCentralStepTrials; trial++ {
 		if bracketed && powellSingularCGCentralAbs(high.step-low.step) <= tiny {
@@ -776,12 +919,12 @@ func powellSingularCGCentralLineSearch(x *[4]float64, fx float64, d *[4]float64,
 			if low.step == 0 {
 				return powellSingularCGCentralLineResult{calls: calls, rising: trend.contradicts(), end: powellSingularCGCentralTinyOrExhausted(powellSingularCGCentralFinite(high.value))}
 			}
-			return powellSingularCGCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return powellSingularCGCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return powellSingularCGCentralLineResult{calls: calls, end: powellSingularCGCentralSearchOutOfBudget}
 		}
-		powellSingularCGCentralMoveTo(xt, x, t, d)
+		powellSingularCGCentralTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := powellSingularCGCentralLinePoint{step: t, value: PowellSingular(xt)}
 		calls++
 		previous := low
@@ -792,8 +935,7 @@ func powellSingularCGCentralLineSearch(x *[4]float64, fx float64, d *[4]float64,
 			if calls+powellSingularCGCentralDerivativeCost > budget {
 				return powellSingularCGCentralLineResult{calls: calls, end: powellSingularCGCentralSearchOutOfBudget}
 			}
-			powellSingularCGCentralDerivative(xt, current.value, gt, diffs)
-			calls += powellSingularCGCentralDerivativeCost
+			calls += powellSingularCGCentralDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = powellSingularCGCentralDot(gt, d), true
 			switch {
 			case !powellSingularCGCentralFinite(current.slope):
@@ -804,18 +946,22 @@ func powellSingularCGCentralLineSearch(x *[4]float64, fx float64, d *[4]float64,
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return powellSingularCGCentralLineResult{step: t, value: current.value, calls: calls, gradient: true, end: powellSingularCGCentralSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = powellSingularCGCentralZoomTrial(&low, &high)
-		} else {
-			t = powellSingularCGCentralExpandTrial(&previous, &current)
+		} else if t = powellSingularCGCentralExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return powellSingularCGCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return powellSingularCGCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return powellSingularCGCentralLineResult{calls: calls, rising: trend.contradicts(), end: powellSingularCGCentralSearchExhausted}
 }
@@ -902,6 +1048,11 @@ func powellSingularCGCentralFaithfulStep(x, xt, d *[4]float64, t float64) bool {
 	return true
 }
 
+// powellSingularCGCentralStepCap: without bounds a step may be as long as the search wants.
+func powellSingularCGCentralStepCap(x, d *[4]float64, tiny float64, b *powellSingularCGCentralBox) float64 {
+	return math.Inf(1)
+}
+
 // powellSingularCGCentralTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -926,10 +1077,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func powellSingularCGCentralAcceptLow(x, d *[4]float64, low *powellSingularCGCentralLinePoint, lowGradient *[4]float64, calls int, xt, gt *[4]float64) powellSingularCGCentralLineResult {
-	powellSingularCGCentralMoveTo(xt, x, low.step, d)
+func powellSingularCGCentralAcceptLow(x, d *[4]float64, low *powellSingularCGCentralLinePoint, lowGradient *[4]float64, calls int, xt, gt *[4]float64, diffs *powellSingularCGCentralDifferences) powellSingularCGCentralLineResult {
+	powellSingularCGCentralTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return powellSingularCGCentralLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: powellSingularCGCentralSearchAccepted}
+}
+
+// powellSingularCGCentralTrialPoint is x + t·d.
+func powellSingularCGCentralTrialPoint(out, x *[4]float64, t float64, d *[4]float64, b *powellSingularCGCentralBox) {
+	powellSingularCGCentralMoveTo(out, x, t, d)
 }
 
 // powellSingularCGCentralMoveTo sets out = x + t·d.

@@ -88,6 +88,9 @@ func PowellSingularLBFGSAnalyticDefaultLimits() PowellSingularLBFGSAnalyticLimit
 	}
 }
 
+// powellSingularLBFGSAnalyticBox is empty: mgh.toml sets no bounds on PowellSingularLBFGSAnalytic.
+type powellSingularLBFGSAnalyticBox struct{}
+
 // PowellSingularLBFGSAnalytic minimizes PowellSingular from x0, as mgh.toml specifies.
 //
 // Direction lbfgs: limited-memory BFGS: the last `memory` pairs, two-loop recursion (2·memory·dim numbers).
@@ -105,7 +108,7 @@ func PowellSingularLBFGSAnalytic(x0 [4]float64) PowellSingularLBFGSAnalyticResul
 
 // PowellSingularLBFGSAnalyticWithLimits is PowellSingularLBFGSAnalytic with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func PowellSingularLBFGSAnalyticWithLimits(x0 [4]float64, limits PowellSingularLBFGSAnalyticLimits) PowellSingularLBFGSAnalyticResult {
-	out := powellSingularLBFGSAnalyticMinimize(x0, limits)
+	out := powellSingularLBFGSAnalyticMinimize(x0, limits, powellSingularLBFGSAnalyticBox{})
 	return PowellSingularLBFGSAnalyticResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -159,27 +162,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func powellSingularLBFGSAnalyticMinimize(x0 [4]float64, lim PowellSingularLBFGSAnalyticLimits) powellSingularLBFGSAnalyticOutcome {
-	out := powellSingularLBFGSAnalyticOutcome{x: x0, status: PowellSingularLBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
+func powellSingularLBFGSAnalyticMinimize(x0 [4]float64, lim PowellSingularLBFGSAnalyticLimits, bounds powellSingularLBFGSAnalyticBox) powellSingularLBFGSAnalyticOutcome {
+	x := x0
+	powellSingularLBFGSAnalyticEnterBox(&x, &bounds)
+	out := powellSingularLBFGSAnalyticOutcome{x: x, status: PowellSingularLBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := PowellSingular(&x)
 	out.f, out.evaluations = fx, 1
 	if !powellSingularLBFGSAnalyticFinite(fx) || !powellSingularLBFGSAnalyticFiniteVec(&x) {
 		out.status = PowellSingularLBFGSAnalyticNonFiniteStart
 		return out
 	}
-	var diffs powellSingularLBFGSAnalyticDifferences
+	diffs := powellSingularLBFGSAnalyticDifferences{bounds: bounds}
 	calls, ok := powellSingularLBFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+powellSingularLBFGSAnalyticDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [4]float64
-	powellSingularLBFGSAnalyticDerivative(&x, fx, &g, &diffs)
-	out.evaluations += powellSingularLBFGSAnalyticDerivativeCost
+	out.evaluations += powellSingularLBFGSAnalyticDerivative(&x, fx, &g, &diffs)
 
 	if !powellSingularLBFGSAnalyticFiniteVec(&g) {
 		out.status = PowellSingularLBFGSAnalyticNonFiniteGradient
@@ -212,7 +215,7 @@ func powellSingularLBFGSAnalyticMinimize(x0 [4]float64, lim PowellSingularLBFGSA
 		case !confirmed:
 			powellSingularLBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := powellSingularLBFGSAnalyticGradientMeasure(&g, &e, &x, fx)
+		measure, floor := powellSingularLBFGSAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, powellSingularLBFGSAnalyticLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -251,16 +254,17 @@ func powellSingularLBFGSAnalyticMinimize(x0 [4]float64, lim PowellSingularLBFGSA
 			if rises >= 8 {
 				return best.ending(PowellSingularLBFGSAnalyticDiverged, out.iterations, out.evaluations)
 			}
+			powellSingularLBFGSAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(PowellSingularLBFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		powellSingularLBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := powellSingularLBFGSAnalyticDot(&g, &d)
 		if !(now < 0) || !powellSingularLBFGSAnalyticFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			powellSingularLBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = powellSingularLBFGSAnalyticDot(&g, &d)
 		}
 		first := float64(powellSingularLBFGSAnalyticStepInitial)
@@ -268,7 +272,7 @@ func powellSingularLBFGSAnalyticMinimize(x0 [4]float64, lim PowellSingularLBFGSA
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := powellSingularLBFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := powellSingularLBFGSAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := powellSingularLBFGSAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case powellSingularLBFGSAnalyticSearchOutOfBudget:
@@ -304,8 +308,7 @@ func powellSingularLBFGSAnalyticMinimize(x0 [4]float64, lim PowellSingularLBFGSA
 				}
 				return best.ending(PowellSingularLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			powellSingularLBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += powellSingularLBFGSAnalyticDerivativeCost
+			out.evaluations += powellSingularLBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		powellSingularLBFGSAnalyticDifference(&s, &xt, &x)
@@ -346,6 +349,9 @@ func (o powellSingularLBFGSAnalyticOutcome) ending(end PowellSingularLBFGSAnalyt
 	return o
 }
 
+// powellSingularLBFGSAnalyticEnterBox: without bounds every start is inside.
+func powellSingularLBFGSAnalyticEnterBox(x *[4]float64, b *powellSingularLBFGSAnalyticBox) {}
+
 // powellSingularLBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -368,15 +374,17 @@ func powellSingularLBFGSAnalyticFiniteVec(x *[4]float64) bool {
 	return true
 }
 
-// powellSingularLBFGSAnalyticDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// powellSingularLBFGSAnalyticDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type powellSingularLBFGSAnalyticDifferences struct {
 	ratio     [4]float64
 	curvature [4]float64
 	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see powellSingularLBFGSAnalyticRoundingFloor)
+	bounds    powellSingularLBFGSAnalyticBox
 }
 
 // powellSingularLBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
@@ -385,8 +393,9 @@ func powellSingularLBFGSAnalyticCalibrate(x *[4]float64, fx float64, diffs *powe
 }
 
 // powellSingularLBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func powellSingularLBFGSAnalyticDerivative(x *[4]float64, fx float64, g *[4]float64, diffs *powellSingularLBFGSAnalyticDifferences) {
+func powellSingularLBFGSAnalyticDerivative(x *[4]float64, fx float64, g *[4]float64, diffs *powellSingularLBFGSAnalyticDifferences) int {
 	PowellSingularGrad(x, g)
+	return 0
 }
 
 // powellSingularLBFGSAnalyticDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
@@ -551,13 +560,13 @@ func powellSingularLBFGSAnalyticConfirmGradient(x *[4]float64, fx float64, g, e 
 		wide.ratio[i] *= 2
 	}
 	var doubled [4]float64
-	powellSingularLBFGSAnalyticDerivative(x, fx, g, diffs)
-	powellSingularLBFGSAnalyticDerivative(x, fx, &doubled, &wide)
+	calls += powellSingularLBFGSAnalyticDerivative(x, fx, g, diffs)
+	calls += powellSingularLBFGSAnalyticDerivative(x, fx, &doubled, &wide)
 	powellSingularLBFGSAnalyticGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * powellSingularLBFGSAnalyticAbs(g[i]-doubled[i])
 	}
-	return calls + 2*powellSingularLBFGSAnalyticDerivativeCost, true
+	return calls, true
 }
 
 // powellSingularLBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
@@ -599,18 +608,60 @@ func powellSingularLBFGSAnalyticDiagonalCurvature(x, g *[4]float64, diffs *powel
 	var moved [4]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := powellSingularLBFGSAnalyticProbeStep(xi, powellSingularLBFGSAnalyticSquareRoot(powellSingularLBFGSAnalyticUnitRoundoff)*powellSingularLBFGSAnalyticLarger(1, powellSingularLBFGSAnalyticAbs(xi)))
-		probe[i] = up
-		PowellSingularGrad(&probe, &moved)
-		h[i] = powellSingularLBFGSAnalyticAbs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := powellSingularLBFGSAnalyticCoordinateRange(i, diffs)
+		up, delta := powellSingularLBFGSAnalyticProbeStep(xi, powellSingularLBFGSAnalyticOneSide(xi, powellSingularLBFGSAnalyticSquareRoot(powellSingularLBFGSAnalyticUnitRoundoff)*powellSingularLBFGSAnalyticLarger(1, powellSingularLBFGSAnalyticAbs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			PowellSingularGrad(&probe, &moved)
+			h[i] = powellSingularLBFGSAnalyticAbs(moved[i]-g[i]) / powellSingularLBFGSAnalyticAbs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// powellSingularLBFGSAnalyticProbeStep returns x_i moved by h, and the step actually representable.
-func powellSingularLBFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// powellSingularLBFGSAnalyticCoordinateRange: without bounds any probe is allowed.
+func powellSingularLBFGSAnalyticCoordinateRange(i int, diffs *powellSingularLBFGSAnalyticDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// powellSingularLBFGSAnalyticProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func powellSingularLBFGSAnalyticProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := powellSingularLBFGSAnalyticClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// powellSingularLBFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func powellSingularLBFGSAnalyticClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// powellSingularLBFGSAnalyticOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func powellSingularLBFGSAnalyticOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // powellSingularLBFGSAnalyticSquareRoot returns √v.
@@ -626,6 +677,11 @@ func powellSingularLBFGSAnalyticLarger(a, b float64) float64 {
 		return a
 	}
 	return b
+}
+
+// powellSingularLBFGSAnalyticStationarity measures the gradient itself.
+func powellSingularLBFGSAnalyticStationarity(g, e, x *[4]float64, fx float64, b *powellSingularLBFGSAnalyticBox) (measure, floor float64) {
+	return powellSingularLBFGSAnalyticGradientMeasure(g, e, x, fx)
 }
 
 // powellSingularLBFGSAnalyticGradientMeasure is the scale-free measure
@@ -661,6 +717,15 @@ func powellSingularLBFGSAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
 	return true
 }
 
+// powellSingularLBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
+func powellSingularLBFGSAnalyticCurvaturePair(s, y, x *[4]float64, b *powellSingularLBFGSAnalyticBox) {
+}
+
+// powellSingularLBFGSAnalyticSearchDirection is the direction's own.
+func powellSingularLBFGSAnalyticSearchDirection(dir *powellSingularLBFGSAnalyticDirection, x, g, d *[4]float64, b *powellSingularLBFGSAnalyticBox) {
+	dir.compute(g, d)
+}
+
 // powellSingularLBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func powellSingularLBFGSAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
@@ -688,7 +753,10 @@ func powellSingularLBFGSAnalyticTinyStep(x, d *[4]float64, tol float64) float64 
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (powellSingularLBFGSAnalyticStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -697,13 +765,17 @@ func powellSingularLBFGSAnalyticTinyStep(x, d *[4]float64, tol float64) float64 
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func powellSingularLBFGSAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *powellSingularLBFGSAnalyticDifferences) powellSingularLBFGSAnalyticLineResult {
+func powellSingularLBFGSAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *powellSingularLBFGSAnalyticDifferences) powellSingularLBFGSAnalyticLineResult {
 	low := powellSingularLBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high powellSingularLBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                           // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend powellSingularLBFGSAnalyticRiseTrend // of the trials failing sufficient decrease
+	var trend powellSingularLBFGSAnalyticRiseTrend                         // of the trials failing sufficient decrease
+	limit := powellSingularLBFGSAnalyticStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < powellSingularLBFGSAnalyticStepTrials; trial++ {
 		if bracketed && powellSingularLBFGSAnalyticAbs(high.step-low.step) <= tiny {
@@ -713,12 +785,12 @@ func powellSingularLBFGSAnalyticLineSearch(x *[4]float64, fx float64, d *[4]floa
 			if low.step == 0 {
 				return powellSingularLBFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: powellSingularLBFGSAnalyticTinyOrExhausted(powellSingularLBFGSAnalyticFinite(high.value))}
 			}
-			return powellSingularLBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return powellSingularLBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return powellSingularLBFGSAnalyticLineResult{calls: calls, end: powellSingularLBFGSAnalyticSearchOutOfBudget}
 		}
-		powellSingularLBFGSAnalyticMoveTo(xt, x, t, d)
+		powellSingularLBFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := powellSingularLBFGSAnalyticLinePoint{step: t, value: PowellSingular(xt)}
 		calls++
 		previous := low
@@ -729,8 +801,7 @@ func powellSingularLBFGSAnalyticLineSearch(x *[4]float64, fx float64, d *[4]floa
 			if calls+powellSingularLBFGSAnalyticDerivativeCost > budget {
 				return powellSingularLBFGSAnalyticLineResult{calls: calls, end: powellSingularLBFGSAnalyticSearchOutOfBudget}
 			}
-			powellSingularLBFGSAnalyticDerivative(xt, current.value, gt, diffs)
-			calls += powellSingularLBFGSAnalyticDerivativeCost
+			calls += powellSingularLBFGSAnalyticDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = powellSingularLBFGSAnalyticDot(gt, d), true
 			switch {
 			case !powellSingularLBFGSAnalyticFinite(current.slope):
@@ -741,18 +812,22 @@ func powellSingularLBFGSAnalyticLineSearch(x *[4]float64, fx float64, d *[4]floa
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return powellSingularLBFGSAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: powellSingularLBFGSAnalyticSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = powellSingularLBFGSAnalyticZoomTrial(&low, &high)
-		} else {
-			t = powellSingularLBFGSAnalyticExpandTrial(&previous, &current)
+		} else if t = powellSingularLBFGSAnalyticExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return powellSingularLBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return powellSingularLBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return powellSingularLBFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: powellSingularLBFGSAnalyticSearchExhausted}
 }
@@ -839,6 +914,11 @@ func powellSingularLBFGSAnalyticFaithfulStep(x, xt, d *[4]float64, t float64) bo
 	return true
 }
 
+// powellSingularLBFGSAnalyticStepCap: without bounds a step may be as long as the search wants.
+func powellSingularLBFGSAnalyticStepCap(x, d *[4]float64, tiny float64, b *powellSingularLBFGSAnalyticBox) float64 {
+	return math.Inf(1)
+}
+
 // powellSingularLBFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -863,10 +943,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func powellSingularLBFGSAnalyticAcceptLow(x, d *[4]float64, low *powellSingularLBFGSAnalyticLinePoint, lowGradient *[4]float64, calls int, xt, gt *[4]float64) powellSingularLBFGSAnalyticLineResult {
-	powellSingularLBFGSAnalyticMoveTo(xt, x, low.step, d)
+func powellSingularLBFGSAnalyticAcceptLow(x, d *[4]float64, low *powellSingularLBFGSAnalyticLinePoint, lowGradient *[4]float64, calls int, xt, gt *[4]float64, diffs *powellSingularLBFGSAnalyticDifferences) powellSingularLBFGSAnalyticLineResult {
+	powellSingularLBFGSAnalyticTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return powellSingularLBFGSAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: powellSingularLBFGSAnalyticSearchAccepted}
+}
+
+// powellSingularLBFGSAnalyticTrialPoint is x + t·d.
+func powellSingularLBFGSAnalyticTrialPoint(out, x *[4]float64, t float64, d *[4]float64, b *powellSingularLBFGSAnalyticBox) {
+	powellSingularLBFGSAnalyticMoveTo(out, x, t, d)
 }
 
 // powellSingularLBFGSAnalyticMoveTo sets out = x + t·d.
@@ -921,21 +1006,6 @@ func powellSingularLBFGSAnalyticModelMinimizer(a, b *powellSingularLBFGSAnalytic
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, powellSingularLBFGSAnalyticFinite(t)
-}
-
-// powellSingularLBFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func powellSingularLBFGSAnalyticClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // powellSingularLBFGSAnalyticExpandTrial picks a larger trial after current met sufficient decrease

@@ -88,6 +88,9 @@ func PowellSingularLBFGSCentralDefaultLimits() PowellSingularLBFGSCentralLimits 
 	}
 }
 
+// powellSingularLBFGSCentralBox is empty: mgh.toml sets no bounds on PowellSingularLBFGSCentral.
+type powellSingularLBFGSCentralBox struct{}
+
 // PowellSingularLBFGSCentral minimizes PowellSingular from x0, as mgh.toml specifies.
 //
 // Direction lbfgs: limited-memory BFGS: the last `memory` pairs, two-loop recursion (2·memory·dim numbers).
@@ -105,7 +108,7 @@ func PowellSingularLBFGSCentral(x0 [4]float64) PowellSingularLBFGSCentralResult 
 
 // PowellSingularLBFGSCentralWithLimits is PowellSingularLBFGSCentral with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func PowellSingularLBFGSCentralWithLimits(x0 [4]float64, limits PowellSingularLBFGSCentralLimits) PowellSingularLBFGSCentralResult {
-	out := powellSingularLBFGSCentralMinimize(x0, limits)
+	out := powellSingularLBFGSCentralMinimize(x0, limits, powellSingularLBFGSCentralBox{})
 	return PowellSingularLBFGSCentralResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -159,27 +162,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func powellSingularLBFGSCentralMinimize(x0 [4]float64, lim PowellSingularLBFGSCentralLimits) powellSingularLBFGSCentralOutcome {
-	out := powellSingularLBFGSCentralOutcome{x: x0, status: PowellSingularLBFGSCentralOutOfEvaluations, gradient: math.NaN()}
+func powellSingularLBFGSCentralMinimize(x0 [4]float64, lim PowellSingularLBFGSCentralLimits, bounds powellSingularLBFGSCentralBox) powellSingularLBFGSCentralOutcome {
+	x := x0
+	powellSingularLBFGSCentralEnterBox(&x, &bounds)
+	out := powellSingularLBFGSCentralOutcome{x: x, status: PowellSingularLBFGSCentralOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := PowellSingular(&x)
 	out.f, out.evaluations = fx, 1
 	if !powellSingularLBFGSCentralFinite(fx) || !powellSingularLBFGSCentralFiniteVec(&x) {
 		out.status = PowellSingularLBFGSCentralNonFiniteStart
 		return out
 	}
-	var diffs powellSingularLBFGSCentralDifferences
+	diffs := powellSingularLBFGSCentralDifferences{bounds: bounds}
 	calls, ok := powellSingularLBFGSCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+powellSingularLBFGSCentralDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [4]float64
-	powellSingularLBFGSCentralDerivative(&x, fx, &g, &diffs)
-	out.evaluations += powellSingularLBFGSCentralDerivativeCost
+	out.evaluations += powellSingularLBFGSCentralDerivative(&x, fx, &g, &diffs)
 
 	if !powellSingularLBFGSCentralFiniteVec(&g) {
 		out.status = PowellSingularLBFGSCentralNonFiniteGradient
@@ -212,7 +215,7 @@ func powellSingularLBFGSCentralMinimize(x0 [4]float64, lim PowellSingularLBFGSCe
 		case !confirmed:
 			powellSingularLBFGSCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := powellSingularLBFGSCentralGradientMeasure(&g, &e, &x, fx)
+		measure, floor := powellSingularLBFGSCentralStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, powellSingularLBFGSCentralLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -251,16 +254,17 @@ func powellSingularLBFGSCentralMinimize(x0 [4]float64, lim PowellSingularLBFGSCe
 			if rises >= 8 {
 				return best.ending(PowellSingularLBFGSCentralDiverged, out.iterations, out.evaluations)
 			}
+			powellSingularLBFGSCentralCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(PowellSingularLBFGSCentralOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		powellSingularLBFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := powellSingularLBFGSCentralDot(&g, &d)
 		if !(now < 0) || !powellSingularLBFGSCentralFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			powellSingularLBFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = powellSingularLBFGSCentralDot(&g, &d)
 		}
 		first := float64(powellSingularLBFGSCentralStepInitial)
@@ -268,7 +272,7 @@ func powellSingularLBFGSCentralMinimize(x0 [4]float64, lim PowellSingularLBFGSCe
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := powellSingularLBFGSCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := powellSingularLBFGSCentralLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := powellSingularLBFGSCentralLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case powellSingularLBFGSCentralSearchOutOfBudget:
@@ -304,8 +308,7 @@ func powellSingularLBFGSCentralMinimize(x0 [4]float64, lim PowellSingularLBFGSCe
 				}
 				return best.ending(PowellSingularLBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			powellSingularLBFGSCentralDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += powellSingularLBFGSCentralDerivativeCost
+			out.evaluations += powellSingularLBFGSCentralDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		powellSingularLBFGSCentralDifference(&s, &xt, &x)
@@ -346,6 +349,9 @@ func (o powellSingularLBFGSCentralOutcome) ending(end PowellSingularLBFGSCentral
 	return o
 }
 
+// powellSingularLBFGSCentralEnterBox: without bounds every start is inside.
+func powellSingularLBFGSCentralEnterBox(x *[4]float64, b *powellSingularLBFGSCentralBox) {}
+
 // powellSingularLBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -368,15 +374,17 @@ func powellSingularLBFGSCentralFiniteVec(x *[4]float64) bool {
 	return true
 }
 
-// powellSingularLBFGSCentralDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// powellSingularLBFGSCentralDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type powellSingularLBFGSCentralDifferences struct {
 	ratio     [4]float64
 	curvature [4]float64
 	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see powellSingularLBFGSCentralRoundingFloor)
+	bounds    powellSingularLBFGSCentralBox
 }
 
 // powellSingularLBFGSCentralCalibrate chooses each central-difference interval from the
@@ -398,19 +406,45 @@ func powellSingularLBFGSCentralCalibrate(x *[4]float64, fx float64, diffs *powel
 	var slope [4]float64
 	scale := powellSingularLBFGSCentralAbs(fx)
 	quarter := powellSingularLBFGSCentralSquareRoot(powellSingularLBFGSCentralSquareRoot(powellSingularLBFGSCentralUnitRoundoff)) // u^(1/4)
+	calls := 0
 	for i := range probe {
-		if 4*(i+1) > budget {
-			return 4 * i, false
+		if calls+4 > budget {
+			return calls, false
 		}
 		xi := probe[i]
 		bar := quarter * powellSingularLBFGSCentralLarger(1, powellSingularLBFGSCentralAbs(xi))
+		lower, upper := powellSingularLBFGSCentralCoordinateRange(i, diffs)
+		if xi+2*bar > upper || xi-2*bar < lower {
+			// At a bound: three probes on the side with room, at h, 2h
+			// and 3h, for f‴ ≈ (f(3h) − 3f(2h) + 3f(h) − f(0))/h³ (the
+			// third forward difference).
+			h := powellSingularLBFGSCentralOneSide(xi, bar, 3, lower, upper)
+			if h == 0 {
+				continue // fixed by equal bounds
+			}
+			var f [3]float64
+			for k := range f {
+				probe[i], _ = powellSingularLBFGSCentralProbeStep(xi, float64(k+1)*h, lower, upper)
+				f[k] = PowellSingular(&probe)
+				scale = powellSingularLBFGSCentralLarger(scale, powellSingularLBFGSCentralMagnitude(f[k]))
+			}
+			probe[i] = xi
+			calls += 3
+			if powellSingularLBFGSCentralFinite(f[0]) && powellSingularLBFGSCentralFinite(f[1]) && powellSingularLBFGSCentralFinite(f[2]) {
+				diffs.curvature[i] = powellSingularLBFGSCentralAbs(f[2]-3*f[1]+3*f[0]-fx) / powellSingularLBFGSCentralAbs(h*h*h)
+				diffs.second[i] = powellSingularLBFGSCentralAbs(fx-2*f[0]+f[1]) / (h * h)
+				slope[i] = (-3*fx + 4*f[0] - f[1]) / (2 * h)
+			}
+			continue
+		}
 		var f [4]float64
 		for k, m := range [4]float64{2, 1, -1, -2} {
-			probe[i], _ = powellSingularLBFGSCentralProbeStep(xi, m*bar)
+			probe[i], _ = powellSingularLBFGSCentralProbeStep(xi, m*bar, lower, upper)
 			f[k] = PowellSingular(&probe)
 			scale = powellSingularLBFGSCentralLarger(scale, powellSingularLBFGSCentralMagnitude(f[k]))
 		}
 		probe[i] = xi
+		calls += 4
 		if powellSingularLBFGSCentralFinite(f[0]) && powellSingularLBFGSCentralFinite(f[1]) && powellSingularLBFGSCentralFinite(f[2]) && powellSingularLBFGSCentralFinite(f[3]) {
 			diffs.curvature[i] = powellSingularLBFGSCentralAbs(f[0]-2*f[1]+2*f[2]-f[3]) / (2 * bar * bar * bar)
 			diffs.second[i] = powellSingularLBFGSCentralAbs(f[1]-2*fx+f[2]) / (bar * bar)
@@ -429,7 +463,7 @@ func powellSingularLBFGSCentralCalibrate(x *[4]float64, fx float64, diffs *powel
 		diffs.ratio[i] = powellSingularLBFGSCentralClampBetween(h, 64*powellSingularLBFGSCentralUnitRoundoff*s, bar) / s
 		diffs.curvature[i] = third
 	}
-	return 4 * len(probe), true
+	return calls, true
 }
 
 // powellSingularLBFGSCentralAbs returns |v|.
@@ -455,10 +489,48 @@ func powellSingularLBFGSCentralLarger(a, b float64) float64 {
 	return b
 }
 
-// powellSingularLBFGSCentralProbeStep returns x_i moved by h, and the step actually representable.
-func powellSingularLBFGSCentralProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// powellSingularLBFGSCentralCoordinateRange: without bounds any probe is allowed.
+func powellSingularLBFGSCentralCoordinateRange(i int, diffs *powellSingularLBFGSCentralDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// powellSingularLBFGSCentralOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func powellSingularLBFGSCentralOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
+}
+
+// powellSingularLBFGSCentralProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func powellSingularLBFGSCentralProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := powellSingularLBFGSCentralClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// powellSingularLBFGSCentralClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func powellSingularLBFGSCentralClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
 }
 
 // powellSingularLBFGSCentralMagnitude is |v| for a finite v and 0 otherwise: a probe that fell
@@ -494,42 +566,85 @@ func powellSingularLBFGSCentralCubeRoot(v float64) float64 {
 	return math.Cbrt(v)
 }
 
-// powellSingularLBFGSCentralClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func powellSingularLBFGSCentralClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
-}
-
 // powellSingularLBFGSCentralDerivative approximates the gradient by central differences,
 //
 //	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),
 //
 // with the intervals powellSingularLBFGSCentralCalibrate chose, h_i = ratio_i·max(1, |x_i|)
-// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls; fx is
-// not needed.
-func powellSingularLBFGSCentralDerivative(x *[4]float64, fx float64, g *[4]float64, diffs *powellSingularLBFGSCentralDifferences) {
+// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls. Where
+// a bound leaves no room on one side, the three-point endpoint formula on
+// the other side takes its place at the same cost (see parabola); a
+// variable fixed by equal bounds costs nothing and gets 0.
+func powellSingularLBFGSCentralDerivative(x *[4]float64, fx float64, g *[4]float64, diffs *powellSingularLBFGSCentralDifferences) int {
 	probe := *x
+	calls := 0
 	for i := range probe {
 		xi := probe[i]
-		h := diffs.ratio[i] * powellSingularLBFGSCentralLarger(1, powellSingularLBFGSCentralAbs(xi))
-		up, _ := powellSingularLBFGSCentralProbeStep(xi, h)
-		down, _ := powellSingularLBFGSCentralProbeStep(xi, -h)
-		probe[i] = up
-		fUp := PowellSingular(&probe)
-		probe[i] = down
-		fDown := PowellSingular(&probe)
-		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
-		probe[i] = xi
+		h, oneSided := powellSingularLBFGSCentralCentralInterval(x, i, diffs)
+		lower, upper := powellSingularLBFGSCentralCoordinateRange(i, diffs)
+		switch {
+		case h == 0:
+			g[i] = 0 // fixed by equal bounds
+			continue
+		case oneSided:
+			g[i], _, _ = powellSingularLBFGSCentralSidedProbes(&probe, i, fx, h, lower, upper) // the three-point endpoint formula
+		default:
+			up, _ := powellSingularLBFGSCentralProbeStep(xi, h, lower, upper)
+			down, _ := powellSingularLBFGSCentralProbeStep(xi, -h, lower, upper)
+			probe[i] = up
+			fUp := PowellSingular(&probe)
+			probe[i] = down
+			fDown := PowellSingular(&probe)
+			g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+			probe[i] = xi
+		}
+		calls += 2
 	}
+	return calls
+}
+
+// powellSingularLBFGSCentralCentralInterval is the interval of coordinate i at x, ratio_i·max(1,
+// |x_i|), and whether the box leaves room for probes on both sides; when
+// it does not, the interval is signed towards the side with room for
+// probes at h and 2h, and shortened where the box is narrower than that
+// (see powellSingularLBFGSCentralOneSide).
+func powellSingularLBFGSCentralCentralInterval(x *[4]float64, i int, diffs *powellSingularLBFGSCentralDifferences) (h float64, oneSided bool) {
+	lower, upper := powellSingularLBFGSCentralCoordinateRange(i, diffs)
+	h = diffs.ratio[i] * powellSingularLBFGSCentralLarger(1, powellSingularLBFGSCentralAbs(x[i]))
+	if x[i]+h <= upper && x[i]-h >= lower {
+		return h, false
+	}
+	return powellSingularLBFGSCentralOneSide(x[i], h, 2, lower, upper), true
+}
+
+// powellSingularLBFGSCentralSidedProbes evaluates f at x moved along coordinate i by h and by 2h,
+// kept within [lower, upper], and returns the slope and second derivative
+// of the parabola through them and (x, fx) (see parabola), and the larger
+// magnitude of the two values.
+func powellSingularLBFGSCentralSidedProbes(probe *[4]float64, i int, fx, h, lower, upper float64) (slope, second, size float64) {
+	xi := probe[i]
+	near, a := powellSingularLBFGSCentralProbeStep(xi, h, lower, upper)
+	far, b := powellSingularLBFGSCentralProbeStep(xi, 2*h, lower, upper)
+	probe[i] = near
+	fNear := PowellSingular(probe)
+	probe[i] = far
+	fFar := PowellSingular(probe)
+	probe[i] = xi
+	slope, second = powellSingularLBFGSCentralParabola(fx, a, fNear, b, fFar)
+	return slope, second, powellSingularLBFGSCentralLarger(powellSingularLBFGSCentralMagnitude(fNear), powellSingularLBFGSCentralMagnitude(fFar))
+}
+
+// powellSingularLBFGSCentralParabola returns the first and second derivatives at 0 of the parabola
+// through (0, f0), (a, fa) and (b, fb), for probes on one side of a bound.
+// With b = 2a they are the three-point endpoint formulas
+// f′ ≈ (−3f0 + 4fa − fb)/(2a), error a²|f‴|/3, and
+// f″ ≈ (f0 − 2fa + fb)/a² (Burden & Faires, Numerical Analysis, §4.1
+// and §4.1's second-derivative formulas, from memory); written for unequal
+// a and b, so that the representable steps can be used.
+func powellSingularLBFGSCentralParabola(f0, a, fa, b, fb float64) (slope, second float64) {
+	slope = -(a+b)/(a*b)*f0 + b/(a*(b-a))*fa - a/(b*(b-a))*fb
+	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
+	return slope, second
 }
 
 // powellSingularLBFGSCentralDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
@@ -694,13 +809,13 @@ func powellSingularLBFGSCentralConfirmGradient(x *[4]float64, fx float64, g, e *
 		wide.ratio[i] *= 2
 	}
 	var doubled [4]float64
-	powellSingularLBFGSCentralDerivative(x, fx, g, diffs)
-	powellSingularLBFGSCentralDerivative(x, fx, &doubled, &wide)
+	calls += powellSingularLBFGSCentralDerivative(x, fx, g, diffs)
+	calls += powellSingularLBFGSCentralDerivative(x, fx, &doubled, &wide)
 	powellSingularLBFGSCentralGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * powellSingularLBFGSCentralAbs(g[i]-doubled[i])
 	}
-	return calls + 2*powellSingularLBFGSCentralDerivativeCost, true
+	return calls, true
 }
 
 // powellSingularLBFGSCentralGradientError bounds each central difference's error by twice its
@@ -710,8 +825,16 @@ func powellSingularLBFGSCentralConfirmGradient(x *[4]float64, fx float64, g, e *
 func powellSingularLBFGSCentralGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *powellSingularLBFGSCentralDifferences) {
 	noise := powellSingularLBFGSCentralNoiseLevel(x, fx, g)
 	for i := range e {
-		h := diffs.ratio[i] * powellSingularLBFGSCentralLarger(1, powellSingularLBFGSCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		h, oneSided := powellSingularLBFGSCentralCentralInterval(x, i, diffs)
+		h = powellSingularLBFGSCentralAbs(h)
+		switch {
+		case h == 0:
+			e[i] = 0 // fixed by equal bounds
+		case oneSided:
+			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+		default:
+			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		}
 	}
 }
 
@@ -733,6 +856,11 @@ func powellSingularLBFGSCentralRoundingFloor(x, g, e *[4]float64, diffs *powellS
 // calibration, which powellSingularLBFGSCentralConfirmGradient has just made at x.
 func powellSingularLBFGSCentralDiagonalCurvature(x, g *[4]float64, diffs *powellSingularLBFGSCentralDifferences, h *[4]float64) {
 	*h = diffs.second
+}
+
+// powellSingularLBFGSCentralStationarity measures the gradient itself.
+func powellSingularLBFGSCentralStationarity(g, e, x *[4]float64, fx float64, b *powellSingularLBFGSCentralBox) (measure, floor float64) {
+	return powellSingularLBFGSCentralGradientMeasure(g, e, x, fx)
 }
 
 // powellSingularLBFGSCentralGradientMeasure is the scale-free measure
@@ -768,6 +896,14 @@ func powellSingularLBFGSCentralStepWithin(s, x *[4]float64, tol float64) bool {
 	return true
 }
 
+// powellSingularLBFGSCentralCurvaturePair: without bounds the pair is used as it is.
+func powellSingularLBFGSCentralCurvaturePair(s, y, x *[4]float64, b *powellSingularLBFGSCentralBox) {}
+
+// powellSingularLBFGSCentralSearchDirection is the direction's own.
+func powellSingularLBFGSCentralSearchDirection(dir *powellSingularLBFGSCentralDirection, x, g, d *[4]float64, b *powellSingularLBFGSCentralBox) {
+	dir.compute(g, d)
+}
+
 // powellSingularLBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func powellSingularLBFGSCentralTinyStep(x, d *[4]float64, tol float64) float64 {
@@ -795,7 +931,10 @@ func powellSingularLBFGSCentralTinyStep(x, d *[4]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (powellSingularLBFGSCentralStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -804,13 +943,17 @@ func powellSingularLBFGSCentralTinyStep(x, d *[4]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func powellSingularLBFGSCentralLineSearch(x *[4]float64, fx float64, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *powellSingularLBFGSCentralDifferences) powellSingularLBFGSCentralLineResult {
+func powellSingularLBFGSCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *powellSingularLBFGSCentralDifferences) powellSingularLBFGSCentralLineResult {
 	low := powellSingularLBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high powellSingularLBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                          // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend powellSingularLBFGSCentralRiseTrend // of the trials failing sufficient decrease
+	var trend powellSingularLBFGSCentralRiseTrend                         // of the trials failing sufficient decrease
+	limit := powellSingularLBFGSCentralStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < powellSingularLBFGSCentralStepTrials; trial++ {
 		if bracketed && powellSingularLBFGSCentralAbs(high.step-low.step) <= tiny {
@@ -820,12 +963,12 @@ func powellSingularLBFGSCentralLineSearch(x *[4]float64, fx float64, d *[4]float
 			if low.step == 0 {
 				return powellSingularLBFGSCentralLineResult{calls: calls, rising: trend.contradicts(), end: powellSingularLBFGSCentralTinyOrExhausted(powellSingularLBFGSCentralFinite(high.value))}
 			}
-			return powellSingularLBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return powellSingularLBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return powellSingularLBFGSCentralLineResult{calls: calls, end: powellSingularLBFGSCentralSearchOutOfBudget}
 		}
-		powellSingularLBFGSCentralMoveTo(xt, x, t, d)
+		powellSingularLBFGSCentralTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := powellSingularLBFGSCentralLinePoint{step: t, value: PowellSingular(xt)}
 		calls++
 		previous := low
@@ -836,8 +979,7 @@ func powellSingularLBFGSCentralLineSearch(x *[4]float64, fx float64, d *[4]float
 			if calls+powellSingularLBFGSCentralDerivativeCost > budget {
 				return powellSingularLBFGSCentralLineResult{calls: calls, end: powellSingularLBFGSCentralSearchOutOfBudget}
 			}
-			powellSingularLBFGSCentralDerivative(xt, current.value, gt, diffs)
-			calls += powellSingularLBFGSCentralDerivativeCost
+			calls += powellSingularLBFGSCentralDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = powellSingularLBFGSCentralDot(gt, d), true
 			switch {
 			case !powellSingularLBFGSCentralFinite(current.slope):
@@ -848,18 +990,22 @@ func powellSingularLBFGSCentralLineSearch(x *[4]float64, fx float64, d *[4]float
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return powellSingularLBFGSCentralLineResult{step: t, value: current.value, calls: calls, gradient: true, end: powellSingularLBFGSCentralSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = powellSingularLBFGSCentralZoomTrial(&low, &high)
-		} else {
-			t = powellSingularLBFGSCentralExpandTrial(&previous, &current)
+		} else if t = powellSingularLBFGSCentralExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return powellSingularLBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return powellSingularLBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return powellSingularLBFGSCentralLineResult{calls: calls, rising: trend.contradicts(), end: powellSingularLBFGSCentralSearchExhausted}
 }
@@ -946,6 +1092,11 @@ func powellSingularLBFGSCentralFaithfulStep(x, xt, d *[4]float64, t float64) boo
 	return true
 }
 
+// powellSingularLBFGSCentralStepCap: without bounds a step may be as long as the search wants.
+func powellSingularLBFGSCentralStepCap(x, d *[4]float64, tiny float64, b *powellSingularLBFGSCentralBox) float64 {
+	return math.Inf(1)
+}
+
 // powellSingularLBFGSCentralTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -970,10 +1121,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func powellSingularLBFGSCentralAcceptLow(x, d *[4]float64, low *powellSingularLBFGSCentralLinePoint, lowGradient *[4]float64, calls int, xt, gt *[4]float64) powellSingularLBFGSCentralLineResult {
-	powellSingularLBFGSCentralMoveTo(xt, x, low.step, d)
+func powellSingularLBFGSCentralAcceptLow(x, d *[4]float64, low *powellSingularLBFGSCentralLinePoint, lowGradient *[4]float64, calls int, xt, gt *[4]float64, diffs *powellSingularLBFGSCentralDifferences) powellSingularLBFGSCentralLineResult {
+	powellSingularLBFGSCentralTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return powellSingularLBFGSCentralLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: powellSingularLBFGSCentralSearchAccepted}
+}
+
+// powellSingularLBFGSCentralTrialPoint is x + t·d.
+func powellSingularLBFGSCentralTrialPoint(out, x *[4]float64, t float64, d *[4]float64, b *powellSingularLBFGSCentralBox) {
+	powellSingularLBFGSCentralMoveTo(out, x, t, d)
 }
 
 // powellSingularLBFGSCentralMoveTo sets out = x + t·d.

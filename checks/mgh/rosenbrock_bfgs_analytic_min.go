@@ -88,6 +88,9 @@ func RosenbrockBFGSAnalyticDefaultLimits() RosenbrockBFGSAnalyticLimits {
 	}
 }
 
+// rosenbrockBFGSAnalyticBox is empty: mgh.toml sets no bounds on RosenbrockBFGSAnalytic.
+type rosenbrockBFGSAnalyticBox struct{}
+
 // RosenbrockBFGSAnalytic minimizes Rosenbrock from x0, as mgh.toml specifies.
 //
 // Direction bfgs: BFGS quasi-Newton with a dense inverse-Hessian approximation (dim² numbers).
@@ -105,7 +108,7 @@ func RosenbrockBFGSAnalytic(x0 [2]float64) RosenbrockBFGSAnalyticResult {
 
 // RosenbrockBFGSAnalyticWithLimits is RosenbrockBFGSAnalytic with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func RosenbrockBFGSAnalyticWithLimits(x0 [2]float64, limits RosenbrockBFGSAnalyticLimits) RosenbrockBFGSAnalyticResult {
-	out := rosenbrockBFGSAnalyticMinimize(x0, limits)
+	out := rosenbrockBFGSAnalyticMinimize(x0, limits, rosenbrockBFGSAnalyticBox{})
 	return RosenbrockBFGSAnalyticResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func rosenbrockBFGSAnalyticMinimize(x0 [2]float64, lim RosenbrockBFGSAnalyticLimits) rosenbrockBFGSAnalyticOutcome {
-	out := rosenbrockBFGSAnalyticOutcome{x: x0, status: RosenbrockBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
+func rosenbrockBFGSAnalyticMinimize(x0 [2]float64, lim RosenbrockBFGSAnalyticLimits, bounds rosenbrockBFGSAnalyticBox) rosenbrockBFGSAnalyticOutcome {
+	x := x0
+	rosenbrockBFGSAnalyticEnterBox(&x, &bounds)
+	out := rosenbrockBFGSAnalyticOutcome{x: x, status: RosenbrockBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := Rosenbrock(&x)
 	out.f, out.evaluations = fx, 1
 	if !rosenbrockBFGSAnalyticFinite(fx) || !rosenbrockBFGSAnalyticFiniteVec(&x) {
 		out.status = RosenbrockBFGSAnalyticNonFiniteStart
 		return out
 	}
-	var diffs rosenbrockBFGSAnalyticDifferences
+	diffs := rosenbrockBFGSAnalyticDifferences{bounds: bounds}
 	calls, ok := rosenbrockBFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+rosenbrockBFGSAnalyticDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [2]float64
-	rosenbrockBFGSAnalyticDerivative(&x, fx, &g, &diffs)
-	out.evaluations += rosenbrockBFGSAnalyticDerivativeCost
+	out.evaluations += rosenbrockBFGSAnalyticDerivative(&x, fx, &g, &diffs)
 
 	if !rosenbrockBFGSAnalyticFiniteVec(&g) {
 		out.status = RosenbrockBFGSAnalyticNonFiniteGradient
@@ -211,7 +214,7 @@ func rosenbrockBFGSAnalyticMinimize(x0 [2]float64, lim RosenbrockBFGSAnalyticLim
 		case !confirmed:
 			rosenbrockBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := rosenbrockBFGSAnalyticGradientMeasure(&g, &e, &x, fx)
+		measure, floor := rosenbrockBFGSAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, rosenbrockBFGSAnalyticLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func rosenbrockBFGSAnalyticMinimize(x0 [2]float64, lim RosenbrockBFGSAnalyticLim
 			if rises >= 8 {
 				return best.ending(RosenbrockBFGSAnalyticDiverged, out.iterations, out.evaluations)
 			}
+			rosenbrockBFGSAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(RosenbrockBFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		rosenbrockBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := rosenbrockBFGSAnalyticDot(&g, &d)
 		if !(now < 0) || !rosenbrockBFGSAnalyticFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			rosenbrockBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = rosenbrockBFGSAnalyticDot(&g, &d)
 		}
 		first := float64(rosenbrockBFGSAnalyticStepInitial)
@@ -267,7 +271,7 @@ func rosenbrockBFGSAnalyticMinimize(x0 [2]float64, lim RosenbrockBFGSAnalyticLim
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := rosenbrockBFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := rosenbrockBFGSAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := rosenbrockBFGSAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case rosenbrockBFGSAnalyticSearchOutOfBudget:
@@ -303,8 +307,7 @@ func rosenbrockBFGSAnalyticMinimize(x0 [2]float64, lim RosenbrockBFGSAnalyticLim
 				}
 				return best.ending(RosenbrockBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			rosenbrockBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += rosenbrockBFGSAnalyticDerivativeCost
+			out.evaluations += rosenbrockBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		rosenbrockBFGSAnalyticDifference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o rosenbrockBFGSAnalyticOutcome) ending(end RosenbrockBFGSAnalyticStatus, 
 	return o
 }
 
+// rosenbrockBFGSAnalyticEnterBox: without bounds every start is inside.
+func rosenbrockBFGSAnalyticEnterBox(x *[2]float64, b *rosenbrockBFGSAnalyticBox) {}
+
 // rosenbrockBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func rosenbrockBFGSAnalyticFiniteVec(x *[2]float64) bool {
 	return true
 }
 
-// rosenbrockBFGSAnalyticDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// rosenbrockBFGSAnalyticDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type rosenbrockBFGSAnalyticDifferences struct {
 	ratio     [2]float64
 	curvature [2]float64
 	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see rosenbrockBFGSAnalyticRoundingFloor)
+	bounds    rosenbrockBFGSAnalyticBox
 }
 
 // rosenbrockBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
@@ -384,8 +392,9 @@ func rosenbrockBFGSAnalyticCalibrate(x *[2]float64, fx float64, diffs *rosenbroc
 }
 
 // rosenbrockBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func rosenbrockBFGSAnalyticDerivative(x *[2]float64, fx float64, g *[2]float64, diffs *rosenbrockBFGSAnalyticDifferences) {
+func rosenbrockBFGSAnalyticDerivative(x *[2]float64, fx float64, g *[2]float64, diffs *rosenbrockBFGSAnalyticDifferences) int {
 	RosenbrockGrad(x, g)
+	return 0
 }
 
 // rosenbrockBFGSAnalyticDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
@@ -525,13 +534,13 @@ func rosenbrockBFGSAnalyticConfirmGradient(x *[2]float64, fx float64, g, e *[2]f
 		wide.ratio[i] *= 2
 	}
 	var doubled [2]float64
-	rosenbrockBFGSAnalyticDerivative(x, fx, g, diffs)
-	rosenbrockBFGSAnalyticDerivative(x, fx, &doubled, &wide)
+	calls += rosenbrockBFGSAnalyticDerivative(x, fx, g, diffs)
+	calls += rosenbrockBFGSAnalyticDerivative(x, fx, &doubled, &wide)
 	rosenbrockBFGSAnalyticGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * rosenbrockBFGSAnalyticAbs(g[i]-doubled[i])
 	}
-	return calls + 2*rosenbrockBFGSAnalyticDerivativeCost, true
+	return calls, true
 }
 
 // rosenbrockBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
@@ -573,18 +582,60 @@ func rosenbrockBFGSAnalyticDiagonalCurvature(x, g *[2]float64, diffs *rosenbrock
 	var moved [2]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := rosenbrockBFGSAnalyticProbeStep(xi, rosenbrockBFGSAnalyticSquareRoot(rosenbrockBFGSAnalyticUnitRoundoff)*rosenbrockBFGSAnalyticLarger(1, rosenbrockBFGSAnalyticAbs(xi)))
-		probe[i] = up
-		RosenbrockGrad(&probe, &moved)
-		h[i] = rosenbrockBFGSAnalyticAbs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := rosenbrockBFGSAnalyticCoordinateRange(i, diffs)
+		up, delta := rosenbrockBFGSAnalyticProbeStep(xi, rosenbrockBFGSAnalyticOneSide(xi, rosenbrockBFGSAnalyticSquareRoot(rosenbrockBFGSAnalyticUnitRoundoff)*rosenbrockBFGSAnalyticLarger(1, rosenbrockBFGSAnalyticAbs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			RosenbrockGrad(&probe, &moved)
+			h[i] = rosenbrockBFGSAnalyticAbs(moved[i]-g[i]) / rosenbrockBFGSAnalyticAbs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// rosenbrockBFGSAnalyticProbeStep returns x_i moved by h, and the step actually representable.
-func rosenbrockBFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// rosenbrockBFGSAnalyticCoordinateRange: without bounds any probe is allowed.
+func rosenbrockBFGSAnalyticCoordinateRange(i int, diffs *rosenbrockBFGSAnalyticDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// rosenbrockBFGSAnalyticProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func rosenbrockBFGSAnalyticProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := rosenbrockBFGSAnalyticClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// rosenbrockBFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func rosenbrockBFGSAnalyticClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// rosenbrockBFGSAnalyticOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func rosenbrockBFGSAnalyticOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // rosenbrockBFGSAnalyticSquareRoot returns √v.
@@ -600,6 +651,11 @@ func rosenbrockBFGSAnalyticLarger(a, b float64) float64 {
 		return a
 	}
 	return b
+}
+
+// rosenbrockBFGSAnalyticStationarity measures the gradient itself.
+func rosenbrockBFGSAnalyticStationarity(g, e, x *[2]float64, fx float64, b *rosenbrockBFGSAnalyticBox) (measure, floor float64) {
+	return rosenbrockBFGSAnalyticGradientMeasure(g, e, x, fx)
 }
 
 // rosenbrockBFGSAnalyticGradientMeasure is the scale-free measure
@@ -635,6 +691,14 @@ func rosenbrockBFGSAnalyticStepWithin(s, x *[2]float64, tol float64) bool {
 	return true
 }
 
+// rosenbrockBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
+func rosenbrockBFGSAnalyticCurvaturePair(s, y, x *[2]float64, b *rosenbrockBFGSAnalyticBox) {}
+
+// rosenbrockBFGSAnalyticSearchDirection is the direction's own.
+func rosenbrockBFGSAnalyticSearchDirection(dir *rosenbrockBFGSAnalyticDirection, x, g, d *[2]float64, b *rosenbrockBFGSAnalyticBox) {
+	dir.compute(g, d)
+}
+
 // rosenbrockBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func rosenbrockBFGSAnalyticTinyStep(x, d *[2]float64, tol float64) float64 {
@@ -662,7 +726,10 @@ func rosenbrockBFGSAnalyticTinyStep(x, d *[2]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (rosenbrockBFGSAnalyticStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -671,13 +738,17 @@ func rosenbrockBFGSAnalyticTinyStep(x, d *[2]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func rosenbrockBFGSAnalyticLineSearch(x *[2]float64, fx float64, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *rosenbrockBFGSAnalyticDifferences) rosenbrockBFGSAnalyticLineResult {
+func rosenbrockBFGSAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *rosenbrockBFGSAnalyticDifferences) rosenbrockBFGSAnalyticLineResult {
 	low := rosenbrockBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high rosenbrockBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                      // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend rosenbrockBFGSAnalyticRiseTrend // of the trials failing sufficient decrease
+	var trend rosenbrockBFGSAnalyticRiseTrend                         // of the trials failing sufficient decrease
+	limit := rosenbrockBFGSAnalyticStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < rosenbrockBFGSAnalyticStepTrials; trial++ {
 		if bracketed && rosenbrockBFGSAnalyticAbs(high.step-low.step) <= tiny {
@@ -687,12 +758,12 @@ func rosenbrockBFGSAnalyticLineSearch(x *[2]float64, fx float64, d *[2]float64, 
 			if low.step == 0 {
 				return rosenbrockBFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: rosenbrockBFGSAnalyticTinyOrExhausted(rosenbrockBFGSAnalyticFinite(high.value))}
 			}
-			return rosenbrockBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return rosenbrockBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return rosenbrockBFGSAnalyticLineResult{calls: calls, end: rosenbrockBFGSAnalyticSearchOutOfBudget}
 		}
-		rosenbrockBFGSAnalyticMoveTo(xt, x, t, d)
+		rosenbrockBFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := rosenbrockBFGSAnalyticLinePoint{step: t, value: Rosenbrock(xt)}
 		calls++
 		previous := low
@@ -703,8 +774,7 @@ func rosenbrockBFGSAnalyticLineSearch(x *[2]float64, fx float64, d *[2]float64, 
 			if calls+rosenbrockBFGSAnalyticDerivativeCost > budget {
 				return rosenbrockBFGSAnalyticLineResult{calls: calls, end: rosenbrockBFGSAnalyticSearchOutOfBudget}
 			}
-			rosenbrockBFGSAnalyticDerivative(xt, current.value, gt, diffs)
-			calls += rosenbrockBFGSAnalyticDerivativeCost
+			calls += rosenbrockBFGSAnalyticDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = rosenbrockBFGSAnalyticDot(gt, d), true
 			switch {
 			case !rosenbrockBFGSAnalyticFinite(current.slope):
@@ -715,18 +785,22 @@ func rosenbrockBFGSAnalyticLineSearch(x *[2]float64, fx float64, d *[2]float64, 
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return rosenbrockBFGSAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: rosenbrockBFGSAnalyticSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = rosenbrockBFGSAnalyticZoomTrial(&low, &high)
-		} else {
-			t = rosenbrockBFGSAnalyticExpandTrial(&previous, &current)
+		} else if t = rosenbrockBFGSAnalyticExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return rosenbrockBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return rosenbrockBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return rosenbrockBFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: rosenbrockBFGSAnalyticSearchExhausted}
 }
@@ -813,6 +887,11 @@ func rosenbrockBFGSAnalyticFaithfulStep(x, xt, d *[2]float64, t float64) bool {
 	return true
 }
 
+// rosenbrockBFGSAnalyticStepCap: without bounds a step may be as long as the search wants.
+func rosenbrockBFGSAnalyticStepCap(x, d *[2]float64, tiny float64, b *rosenbrockBFGSAnalyticBox) float64 {
+	return math.Inf(1)
+}
+
 // rosenbrockBFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -837,10 +916,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func rosenbrockBFGSAnalyticAcceptLow(x, d *[2]float64, low *rosenbrockBFGSAnalyticLinePoint, lowGradient *[2]float64, calls int, xt, gt *[2]float64) rosenbrockBFGSAnalyticLineResult {
-	rosenbrockBFGSAnalyticMoveTo(xt, x, low.step, d)
+func rosenbrockBFGSAnalyticAcceptLow(x, d *[2]float64, low *rosenbrockBFGSAnalyticLinePoint, lowGradient *[2]float64, calls int, xt, gt *[2]float64, diffs *rosenbrockBFGSAnalyticDifferences) rosenbrockBFGSAnalyticLineResult {
+	rosenbrockBFGSAnalyticTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return rosenbrockBFGSAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: rosenbrockBFGSAnalyticSearchAccepted}
+}
+
+// rosenbrockBFGSAnalyticTrialPoint is x + t·d.
+func rosenbrockBFGSAnalyticTrialPoint(out, x *[2]float64, t float64, d *[2]float64, b *rosenbrockBFGSAnalyticBox) {
+	rosenbrockBFGSAnalyticMoveTo(out, x, t, d)
 }
 
 // rosenbrockBFGSAnalyticMoveTo sets out = x + t·d.
@@ -895,21 +979,6 @@ func rosenbrockBFGSAnalyticModelMinimizer(a, b *rosenbrockBFGSAnalyticLinePoint)
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, rosenbrockBFGSAnalyticFinite(t)
-}
-
-// rosenbrockBFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func rosenbrockBFGSAnalyticClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // rosenbrockBFGSAnalyticExpandTrial picks a larger trial after current met sufficient decrease

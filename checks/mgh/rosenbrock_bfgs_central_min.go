@@ -88,6 +88,9 @@ func RosenbrockBFGSCentralDefaultLimits() RosenbrockBFGSCentralLimits {
 	}
 }
 
+// rosenbrockBFGSCentralBox is empty: mgh.toml sets no bounds on RosenbrockBFGSCentral.
+type rosenbrockBFGSCentralBox struct{}
+
 // RosenbrockBFGSCentral minimizes Rosenbrock from x0, as mgh.toml specifies.
 //
 // Direction bfgs: BFGS quasi-Newton with a dense inverse-Hessian approximation (dim² numbers).
@@ -105,7 +108,7 @@ func RosenbrockBFGSCentral(x0 [2]float64) RosenbrockBFGSCentralResult {
 
 // RosenbrockBFGSCentralWithLimits is RosenbrockBFGSCentral with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func RosenbrockBFGSCentralWithLimits(x0 [2]float64, limits RosenbrockBFGSCentralLimits) RosenbrockBFGSCentralResult {
-	out := rosenbrockBFGSCentralMinimize(x0, limits)
+	out := rosenbrockBFGSCentralMinimize(x0, limits, rosenbrockBFGSCentralBox{})
 	return RosenbrockBFGSCentralResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func rosenbrockBFGSCentralMinimize(x0 [2]float64, lim RosenbrockBFGSCentralLimits) rosenbrockBFGSCentralOutcome {
-	out := rosenbrockBFGSCentralOutcome{x: x0, status: RosenbrockBFGSCentralOutOfEvaluations, gradient: math.NaN()}
+func rosenbrockBFGSCentralMinimize(x0 [2]float64, lim RosenbrockBFGSCentralLimits, bounds rosenbrockBFGSCentralBox) rosenbrockBFGSCentralOutcome {
+	x := x0
+	rosenbrockBFGSCentralEnterBox(&x, &bounds)
+	out := rosenbrockBFGSCentralOutcome{x: x, status: RosenbrockBFGSCentralOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := Rosenbrock(&x)
 	out.f, out.evaluations = fx, 1
 	if !rosenbrockBFGSCentralFinite(fx) || !rosenbrockBFGSCentralFiniteVec(&x) {
 		out.status = RosenbrockBFGSCentralNonFiniteStart
 		return out
 	}
-	var diffs rosenbrockBFGSCentralDifferences
+	diffs := rosenbrockBFGSCentralDifferences{bounds: bounds}
 	calls, ok := rosenbrockBFGSCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+rosenbrockBFGSCentralDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [2]float64
-	rosenbrockBFGSCentralDerivative(&x, fx, &g, &diffs)
-	out.evaluations += rosenbrockBFGSCentralDerivativeCost
+	out.evaluations += rosenbrockBFGSCentralDerivative(&x, fx, &g, &diffs)
 
 	if !rosenbrockBFGSCentralFiniteVec(&g) {
 		out.status = RosenbrockBFGSCentralNonFiniteGradient
@@ -211,7 +214,7 @@ func rosenbrockBFGSCentralMinimize(x0 [2]float64, lim RosenbrockBFGSCentralLimit
 		case !confirmed:
 			rosenbrockBFGSCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := rosenbrockBFGSCentralGradientMeasure(&g, &e, &x, fx)
+		measure, floor := rosenbrockBFGSCentralStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, rosenbrockBFGSCentralLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func rosenbrockBFGSCentralMinimize(x0 [2]float64, lim RosenbrockBFGSCentralLimit
 			if rises >= 8 {
 				return best.ending(RosenbrockBFGSCentralDiverged, out.iterations, out.evaluations)
 			}
+			rosenbrockBFGSCentralCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(RosenbrockBFGSCentralOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		rosenbrockBFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := rosenbrockBFGSCentralDot(&g, &d)
 		if !(now < 0) || !rosenbrockBFGSCentralFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			rosenbrockBFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = rosenbrockBFGSCentralDot(&g, &d)
 		}
 		first := float64(rosenbrockBFGSCentralStepInitial)
@@ -267,7 +271,7 @@ func rosenbrockBFGSCentralMinimize(x0 [2]float64, lim RosenbrockBFGSCentralLimit
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := rosenbrockBFGSCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := rosenbrockBFGSCentralLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := rosenbrockBFGSCentralLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case rosenbrockBFGSCentralSearchOutOfBudget:
@@ -303,8 +307,7 @@ func rosenbrockBFGSCentralMinimize(x0 [2]float64, lim RosenbrockBFGSCentralLimit
 				}
 				return best.ending(RosenbrockBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			rosenbrockBFGSCentralDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += rosenbrockBFGSCentralDerivativeCost
+			out.evaluations += rosenbrockBFGSCentralDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		rosenbrockBFGSCentralDifference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o rosenbrockBFGSCentralOutcome) ending(end RosenbrockBFGSCentralStatus, it
 	return o
 }
 
+// rosenbrockBFGSCentralEnterBox: without bounds every start is inside.
+func rosenbrockBFGSCentralEnterBox(x *[2]float64, b *rosenbrockBFGSCentralBox) {}
+
 // rosenbrockBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func rosenbrockBFGSCentralFiniteVec(x *[2]float64) bool {
 	return true
 }
 
-// rosenbrockBFGSCentralDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// rosenbrockBFGSCentralDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type rosenbrockBFGSCentralDifferences struct {
 	ratio     [2]float64
 	curvature [2]float64
 	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see rosenbrockBFGSCentralRoundingFloor)
+	bounds    rosenbrockBFGSCentralBox
 }
 
 // rosenbrockBFGSCentralCalibrate chooses each central-difference interval from the
@@ -397,19 +405,45 @@ func rosenbrockBFGSCentralCalibrate(x *[2]float64, fx float64, diffs *rosenbrock
 	var slope [2]float64
 	scale := rosenbrockBFGSCentralAbs(fx)
 	quarter := rosenbrockBFGSCentralSquareRoot(rosenbrockBFGSCentralSquareRoot(rosenbrockBFGSCentralUnitRoundoff)) // u^(1/4)
+	calls := 0
 	for i := range probe {
-		if 4*(i+1) > budget {
-			return 4 * i, false
+		if calls+4 > budget {
+			return calls, false
 		}
 		xi := probe[i]
 		bar := quarter * rosenbrockBFGSCentralLarger(1, rosenbrockBFGSCentralAbs(xi))
+		lower, upper := rosenbrockBFGSCentralCoordinateRange(i, diffs)
+		if xi+2*bar > upper || xi-2*bar < lower {
+			// At a bound: three probes on the side with room, at h, 2h
+			// and 3h, for f‴ ≈ (f(3h) − 3f(2h) + 3f(h) − f(0))/h³ (the
+			// third forward difference).
+			h := rosenbrockBFGSCentralOneSide(xi, bar, 3, lower, upper)
+			if h == 0 {
+				continue // fixed by equal bounds
+			}
+			var f [3]float64
+			for k := range f {
+				probe[i], _ = rosenbrockBFGSCentralProbeStep(xi, float64(k+1)*h, lower, upper)
+				f[k] = Rosenbrock(&probe)
+				scale = rosenbrockBFGSCentralLarger(scale, rosenbrockBFGSCentralMagnitude(f[k]))
+			}
+			probe[i] = xi
+			calls += 3
+			if rosenbrockBFGSCentralFinite(f[0]) && rosenbrockBFGSCentralFinite(f[1]) && rosenbrockBFGSCentralFinite(f[2]) {
+				diffs.curvature[i] = rosenbrockBFGSCentralAbs(f[2]-3*f[1]+3*f[0]-fx) / rosenbrockBFGSCentralAbs(h*h*h)
+				diffs.second[i] = rosenbrockBFGSCentralAbs(fx-2*f[0]+f[1]) / (h * h)
+				slope[i] = (-3*fx + 4*f[0] - f[1]) / (2 * h)
+			}
+			continue
+		}
 		var f [4]float64
 		for k, m := range [4]float64{2, 1, -1, -2} {
-			probe[i], _ = rosenbrockBFGSCentralProbeStep(xi, m*bar)
+			probe[i], _ = rosenbrockBFGSCentralProbeStep(xi, m*bar, lower, upper)
 			f[k] = Rosenbrock(&probe)
 			scale = rosenbrockBFGSCentralLarger(scale, rosenbrockBFGSCentralMagnitude(f[k]))
 		}
 		probe[i] = xi
+		calls += 4
 		if rosenbrockBFGSCentralFinite(f[0]) && rosenbrockBFGSCentralFinite(f[1]) && rosenbrockBFGSCentralFinite(f[2]) && rosenbrockBFGSCentralFinite(f[3]) {
 			diffs.curvature[i] = rosenbrockBFGSCentralAbs(f[0]-2*f[1]+2*f[2]-f[3]) / (2 * bar * bar * bar)
 			diffs.second[i] = rosenbrockBFGSCentralAbs(f[1]-2*fx+f[2]) / (bar * bar)
@@ -428,7 +462,7 @@ func rosenbrockBFGSCentralCalibrate(x *[2]float64, fx float64, diffs *rosenbrock
 		diffs.ratio[i] = rosenbrockBFGSCentralClampBetween(h, 64*rosenbrockBFGSCentralUnitRoundoff*s, bar) / s
 		diffs.curvature[i] = third
 	}
-	return 4 * len(probe), true
+	return calls, true
 }
 
 // rosenbrockBFGSCentralAbs returns |v|.
@@ -454,10 +488,48 @@ func rosenbrockBFGSCentralLarger(a, b float64) float64 {
 	return b
 }
 
-// rosenbrockBFGSCentralProbeStep returns x_i moved by h, and the step actually representable.
-func rosenbrockBFGSCentralProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// rosenbrockBFGSCentralCoordinateRange: without bounds any probe is allowed.
+func rosenbrockBFGSCentralCoordinateRange(i int, diffs *rosenbrockBFGSCentralDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// rosenbrockBFGSCentralOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func rosenbrockBFGSCentralOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
+}
+
+// rosenbrockBFGSCentralProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func rosenbrockBFGSCentralProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := rosenbrockBFGSCentralClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// rosenbrockBFGSCentralClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func rosenbrockBFGSCentralClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
 }
 
 // rosenbrockBFGSCentralMagnitude is |v| for a finite v and 0 otherwise: a probe that fell
@@ -493,42 +565,85 @@ func rosenbrockBFGSCentralCubeRoot(v float64) float64 {
 	return math.Cbrt(v)
 }
 
-// rosenbrockBFGSCentralClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func rosenbrockBFGSCentralClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
-}
-
 // rosenbrockBFGSCentralDerivative approximates the gradient by central differences,
 //
 //	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),
 //
 // with the intervals rosenbrockBFGSCentralCalibrate chose, h_i = ratio_i·max(1, |x_i|)
-// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls; fx is
-// not needed.
-func rosenbrockBFGSCentralDerivative(x *[2]float64, fx float64, g *[2]float64, diffs *rosenbrockBFGSCentralDifferences) {
+// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls. Where
+// a bound leaves no room on one side, the three-point endpoint formula on
+// the other side takes its place at the same cost (see parabola); a
+// variable fixed by equal bounds costs nothing and gets 0.
+func rosenbrockBFGSCentralDerivative(x *[2]float64, fx float64, g *[2]float64, diffs *rosenbrockBFGSCentralDifferences) int {
 	probe := *x
+	calls := 0
 	for i := range probe {
 		xi := probe[i]
-		h := diffs.ratio[i] * rosenbrockBFGSCentralLarger(1, rosenbrockBFGSCentralAbs(xi))
-		up, _ := rosenbrockBFGSCentralProbeStep(xi, h)
-		down, _ := rosenbrockBFGSCentralProbeStep(xi, -h)
-		probe[i] = up
-		fUp := Rosenbrock(&probe)
-		probe[i] = down
-		fDown := Rosenbrock(&probe)
-		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
-		probe[i] = xi
+		h, oneSided := rosenbrockBFGSCentralCentralInterval(x, i, diffs)
+		lower, upper := rosenbrockBFGSCentralCoordinateRange(i, diffs)
+		switch {
+		case h == 0:
+			g[i] = 0 // fixed by equal bounds
+			continue
+		case oneSided:
+			g[i], _, _ = rosenbrockBFGSCentralSidedProbes(&probe, i, fx, h, lower, upper) // the three-point endpoint formula
+		default:
+			up, _ := rosenbrockBFGSCentralProbeStep(xi, h, lower, upper)
+			down, _ := rosenbrockBFGSCentralProbeStep(xi, -h, lower, upper)
+			probe[i] = up
+			fUp := Rosenbrock(&probe)
+			probe[i] = down
+			fDown := Rosenbrock(&probe)
+			g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+			probe[i] = xi
+		}
+		calls += 2
 	}
+	return calls
+}
+
+// rosenbrockBFGSCentralCentralInterval is the interval of coordinate i at x, ratio_i·max(1,
+// |x_i|), and whether the box leaves room for probes on both sides; when
+// it does not, the interval is signed towards the side with room for
+// probes at h and 2h, and shortened where the box is narrower than that
+// (see rosenbrockBFGSCentralOneSide).
+func rosenbrockBFGSCentralCentralInterval(x *[2]float64, i int, diffs *rosenbrockBFGSCentralDifferences) (h float64, oneSided bool) {
+	lower, upper := rosenbrockBFGSCentralCoordinateRange(i, diffs)
+	h = diffs.ratio[i] * rosenbrockBFGSCentralLarger(1, rosenbrockBFGSCentralAbs(x[i]))
+	if x[i]+h <= upper && x[i]-h >= lower {
+		return h, false
+	}
+	return rosenbrockBFGSCentralOneSide(x[i], h, 2, lower, upper), true
+}
+
+// rosenbrockBFGSCentralSidedProbes evaluates f at x moved along coordinate i by h and by 2h,
+// kept within [lower, upper], and returns the slope and second derivative
+// of the parabola through them and (x, fx) (see parabola), and the larger
+// magnitude of the two values.
+func rosenbrockBFGSCentralSidedProbes(probe *[2]float64, i int, fx, h, lower, upper float64) (slope, second, size float64) {
+	xi := probe[i]
+	near, a := rosenbrockBFGSCentralProbeStep(xi, h, lower, upper)
+	far, b := rosenbrockBFGSCentralProbeStep(xi, 2*h, lower, upper)
+	probe[i] = near
+	fNear := Rosenbrock(probe)
+	probe[i] = far
+	fFar := Rosenbrock(probe)
+	probe[i] = xi
+	slope, second = rosenbrockBFGSCentralParabola(fx, a, fNear, b, fFar)
+	return slope, second, rosenbrockBFGSCentralLarger(rosenbrockBFGSCentralMagnitude(fNear), rosenbrockBFGSCentralMagnitude(fFar))
+}
+
+// rosenbrockBFGSCentralParabola returns the first and second derivatives at 0 of the parabola
+// through (0, f0), (a, fa) and (b, fb), for probes on one side of a bound.
+// With b = 2a they are the three-point endpoint formulas
+// f′ ≈ (−3f0 + 4fa − fb)/(2a), error a²|f‴|/3, and
+// f″ ≈ (f0 − 2fa + fb)/a² (Burden & Faires, Numerical Analysis, §4.1
+// and §4.1's second-derivative formulas, from memory); written for unequal
+// a and b, so that the representable steps can be used.
+func rosenbrockBFGSCentralParabola(f0, a, fa, b, fb float64) (slope, second float64) {
+	slope = -(a+b)/(a*b)*f0 + b/(a*(b-a))*fa - a/(b*(b-a))*fb
+	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
+	return slope, second
 }
 
 // rosenbrockBFGSCentralDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
@@ -668,13 +783,13 @@ func rosenbrockBFGSCentralConfirmGradient(x *[2]float64, fx float64, g, e *[2]fl
 		wide.ratio[i] *= 2
 	}
 	var doubled [2]float64
-	rosenbrockBFGSCentralDerivative(x, fx, g, diffs)
-	rosenbrockBFGSCentralDerivative(x, fx, &doubled, &wide)
+	calls += rosenbrockBFGSCentralDerivative(x, fx, g, diffs)
+	calls += rosenbrockBFGSCentralDerivative(x, fx, &doubled, &wide)
 	rosenbrockBFGSCentralGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * rosenbrockBFGSCentralAbs(g[i]-doubled[i])
 	}
-	return calls + 2*rosenbrockBFGSCentralDerivativeCost, true
+	return calls, true
 }
 
 // rosenbrockBFGSCentralGradientError bounds each central difference's error by twice its
@@ -684,8 +799,16 @@ func rosenbrockBFGSCentralConfirmGradient(x *[2]float64, fx float64, g, e *[2]fl
 func rosenbrockBFGSCentralGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *rosenbrockBFGSCentralDifferences) {
 	noise := rosenbrockBFGSCentralNoiseLevel(x, fx, g)
 	for i := range e {
-		h := diffs.ratio[i] * rosenbrockBFGSCentralLarger(1, rosenbrockBFGSCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		h, oneSided := rosenbrockBFGSCentralCentralInterval(x, i, diffs)
+		h = rosenbrockBFGSCentralAbs(h)
+		switch {
+		case h == 0:
+			e[i] = 0 // fixed by equal bounds
+		case oneSided:
+			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+		default:
+			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		}
 	}
 }
 
@@ -707,6 +830,11 @@ func rosenbrockBFGSCentralRoundingFloor(x, g, e *[2]float64, diffs *rosenbrockBF
 // calibration, which rosenbrockBFGSCentralConfirmGradient has just made at x.
 func rosenbrockBFGSCentralDiagonalCurvature(x, g *[2]float64, diffs *rosenbrockBFGSCentralDifferences, h *[2]float64) {
 	*h = diffs.second
+}
+
+// rosenbrockBFGSCentralStationarity measures the gradient itself.
+func rosenbrockBFGSCentralStationarity(g, e, x *[2]float64, fx float64, b *rosenbrockBFGSCentralBox) (measure, floor float64) {
+	return rosenbrockBFGSCentralGradientMeasure(g, e, x, fx)
 }
 
 // rosenbrockBFGSCentralGradientMeasure is the scale-free measure
@@ -742,6 +870,14 @@ func rosenbrockBFGSCentralStepWithin(s, x *[2]float64, tol float64) bool {
 	return true
 }
 
+// rosenbrockBFGSCentralCurvaturePair: without bounds the pair is used as it is.
+func rosenbrockBFGSCentralCurvaturePair(s, y, x *[2]float64, b *rosenbrockBFGSCentralBox) {}
+
+// rosenbrockBFGSCentralSearchDirection is the direction's own.
+func rosenbrockBFGSCentralSearchDirection(dir *rosenbrockBFGSCentralDirection, x, g, d *[2]float64, b *rosenbrockBFGSCentralBox) {
+	dir.compute(g, d)
+}
+
 // rosenbrockBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func rosenbrockBFGSCentralTinyStep(x, d *[2]float64, tol float64) float64 {
@@ -769,7 +905,10 @@ func rosenbrockBFGSCentralTinyStep(x, d *[2]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (rosenbrockBFGSCentralStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -778,13 +917,17 @@ func rosenbrockBFGSCentralTinyStep(x, d *[2]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func rosenbrockBFGSCentralLineSearch(x *[2]float64, fx float64, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *rosenbrockBFGSCentralDifferences) rosenbrockBFGSCentralLineResult {
+func rosenbrockBFGSCentralLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *rosenbrockBFGSCentralDifferences) rosenbrockBFGSCentralLineResult {
 	low := rosenbrockBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high rosenbrockBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                     // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend rosenbrockBFGSCentralRiseTrend // of the trials failing sufficient decrease
+	var trend rosenbrockBFGSCentralRiseTrend                         // of the trials failing sufficient decrease
+	limit := rosenbrockBFGSCentralStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < rosenbrockBFGSCentralStepTrials; trial++ {
 		if bracketed && rosenbrockBFGSCentralAbs(high.step-low.step) <= tiny {
@@ -794,12 +937,12 @@ func rosenbrockBFGSCentralLineSearch(x *[2]float64, fx float64, d *[2]float64, s
 			if low.step == 0 {
 				return rosenbrockBFGSCentralLineResult{calls: calls, rising: trend.contradicts(), end: rosenbrockBFGSCentralTinyOrExhausted(rosenbrockBFGSCentralFinite(high.value))}
 			}
-			return rosenbrockBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return rosenbrockBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return rosenbrockBFGSCentralLineResult{calls: calls, end: rosenbrockBFGSCentralSearchOutOfBudget}
 		}
-		rosenbrockBFGSCentralMoveTo(xt, x, t, d)
+		rosenbrockBFGSCentralTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := rosenbrockBFGSCentralLinePoint{step: t, value: Rosenbrock(xt)}
 		calls++
 		previous := low
@@ -810,8 +953,7 @@ func rosenbrockBFGSCentralLineSearch(x *[2]float64, fx float64, d *[2]float64, s
 			if calls+rosenbrockBFGSCentralDerivativeCost > budget {
 				return rosenbrockBFGSCentralLineResult{calls: calls, end: rosenbrockBFGSCentralSearchOutOfBudget}
 			}
-			rosenbrockBFGSCentralDerivative(xt, current.value, gt, diffs)
-			calls += rosenbrockBFGSCentralDerivativeCost
+			calls += rosenbrockBFGSCentralDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = rosenbrockBFGSCentralDot(gt, d), true
 			switch {
 			case !rosenbrockBFGSCentralFinite(current.slope):
@@ -822,18 +964,22 @@ func rosenbrockBFGSCentralLineSearch(x *[2]float64, fx float64, d *[2]float64, s
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return rosenbrockBFGSCentralLineResult{step: t, value: current.value, calls: calls, gradient: true, end: rosenbrockBFGSCentralSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = rosenbrockBFGSCentralZoomTrial(&low, &high)
-		} else {
-			t = rosenbrockBFGSCentralExpandTrial(&previous, &current)
+		} else if t = rosenbrockBFGSCentralExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return rosenbrockBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return rosenbrockBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return rosenbrockBFGSCentralLineResult{calls: calls, rising: trend.contradicts(), end: rosenbrockBFGSCentralSearchExhausted}
 }
@@ -920,6 +1066,11 @@ func rosenbrockBFGSCentralFaithfulStep(x, xt, d *[2]float64, t float64) bool {
 	return true
 }
 
+// rosenbrockBFGSCentralStepCap: without bounds a step may be as long as the search wants.
+func rosenbrockBFGSCentralStepCap(x, d *[2]float64, tiny float64, b *rosenbrockBFGSCentralBox) float64 {
+	return math.Inf(1)
+}
+
 // rosenbrockBFGSCentralTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -944,10 +1095,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func rosenbrockBFGSCentralAcceptLow(x, d *[2]float64, low *rosenbrockBFGSCentralLinePoint, lowGradient *[2]float64, calls int, xt, gt *[2]float64) rosenbrockBFGSCentralLineResult {
-	rosenbrockBFGSCentralMoveTo(xt, x, low.step, d)
+func rosenbrockBFGSCentralAcceptLow(x, d *[2]float64, low *rosenbrockBFGSCentralLinePoint, lowGradient *[2]float64, calls int, xt, gt *[2]float64, diffs *rosenbrockBFGSCentralDifferences) rosenbrockBFGSCentralLineResult {
+	rosenbrockBFGSCentralTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return rosenbrockBFGSCentralLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: rosenbrockBFGSCentralSearchAccepted}
+}
+
+// rosenbrockBFGSCentralTrialPoint is x + t·d.
+func rosenbrockBFGSCentralTrialPoint(out, x *[2]float64, t float64, d *[2]float64, b *rosenbrockBFGSCentralBox) {
+	rosenbrockBFGSCentralMoveTo(out, x, t, d)
 }
 
 // rosenbrockBFGSCentralMoveTo sets out = x + t·d.

@@ -88,6 +88,9 @@ func RosenbrockCGAnalyticDefaultLimits() RosenbrockCGAnalyticLimits {
 	}
 }
 
+// rosenbrockCGAnalyticBox is empty: mgh.toml sets no bounds on RosenbrockCGAnalytic.
+type rosenbrockCGAnalyticBox struct{}
+
 // RosenbrockCGAnalytic minimizes Rosenbrock from x0, as mgh.toml specifies.
 //
 // Direction cg: nonlinear conjugate gradients, Polak–Ribière clipped at zero (PR+), restarted every dim steps.
@@ -105,7 +108,7 @@ func RosenbrockCGAnalytic(x0 [2]float64) RosenbrockCGAnalyticResult {
 
 // RosenbrockCGAnalyticWithLimits is RosenbrockCGAnalytic with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func RosenbrockCGAnalyticWithLimits(x0 [2]float64, limits RosenbrockCGAnalyticLimits) RosenbrockCGAnalyticResult {
-	out := rosenbrockCGAnalyticMinimize(x0, limits)
+	out := rosenbrockCGAnalyticMinimize(x0, limits, rosenbrockCGAnalyticBox{})
 	return RosenbrockCGAnalyticResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func rosenbrockCGAnalyticMinimize(x0 [2]float64, lim RosenbrockCGAnalyticLimits) rosenbrockCGAnalyticOutcome {
-	out := rosenbrockCGAnalyticOutcome{x: x0, status: RosenbrockCGAnalyticOutOfEvaluations, gradient: math.NaN()}
+func rosenbrockCGAnalyticMinimize(x0 [2]float64, lim RosenbrockCGAnalyticLimits, bounds rosenbrockCGAnalyticBox) rosenbrockCGAnalyticOutcome {
+	x := x0
+	rosenbrockCGAnalyticEnterBox(&x, &bounds)
+	out := rosenbrockCGAnalyticOutcome{x: x, status: RosenbrockCGAnalyticOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := Rosenbrock(&x)
 	out.f, out.evaluations = fx, 1
 	if !rosenbrockCGAnalyticFinite(fx) || !rosenbrockCGAnalyticFiniteVec(&x) {
 		out.status = RosenbrockCGAnalyticNonFiniteStart
 		return out
 	}
-	var diffs rosenbrockCGAnalyticDifferences
+	diffs := rosenbrockCGAnalyticDifferences{bounds: bounds}
 	calls, ok := rosenbrockCGAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+rosenbrockCGAnalyticDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [2]float64
-	rosenbrockCGAnalyticDerivative(&x, fx, &g, &diffs)
-	out.evaluations += rosenbrockCGAnalyticDerivativeCost
+	out.evaluations += rosenbrockCGAnalyticDerivative(&x, fx, &g, &diffs)
 
 	if !rosenbrockCGAnalyticFiniteVec(&g) {
 		out.status = RosenbrockCGAnalyticNonFiniteGradient
@@ -211,7 +214,7 @@ func rosenbrockCGAnalyticMinimize(x0 [2]float64, lim RosenbrockCGAnalyticLimits)
 		case !confirmed:
 			rosenbrockCGAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := rosenbrockCGAnalyticGradientMeasure(&g, &e, &x, fx)
+		measure, floor := rosenbrockCGAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, rosenbrockCGAnalyticLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func rosenbrockCGAnalyticMinimize(x0 [2]float64, lim RosenbrockCGAnalyticLimits)
 			if rises >= 8 {
 				return best.ending(RosenbrockCGAnalyticDiverged, out.iterations, out.evaluations)
 			}
+			rosenbrockCGAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(RosenbrockCGAnalyticOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		rosenbrockCGAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := rosenbrockCGAnalyticDot(&g, &d)
 		if !(now < 0) || !rosenbrockCGAnalyticFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			rosenbrockCGAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = rosenbrockCGAnalyticDot(&g, &d)
 		}
 		first := float64(rosenbrockCGAnalyticStepInitial)
@@ -267,7 +271,7 @@ func rosenbrockCGAnalyticMinimize(x0 [2]float64, lim RosenbrockCGAnalyticLimits)
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := rosenbrockCGAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := rosenbrockCGAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := rosenbrockCGAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case rosenbrockCGAnalyticSearchOutOfBudget:
@@ -303,8 +307,7 @@ func rosenbrockCGAnalyticMinimize(x0 [2]float64, lim RosenbrockCGAnalyticLimits)
 				}
 				return best.ending(RosenbrockCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			rosenbrockCGAnalyticDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += rosenbrockCGAnalyticDerivativeCost
+			out.evaluations += rosenbrockCGAnalyticDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		rosenbrockCGAnalyticDifference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o rosenbrockCGAnalyticOutcome) ending(end RosenbrockCGAnalyticStatus, iter
 	return o
 }
 
+// rosenbrockCGAnalyticEnterBox: without bounds every start is inside.
+func rosenbrockCGAnalyticEnterBox(x *[2]float64, b *rosenbrockCGAnalyticBox) {}
+
 // rosenbrockCGAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func rosenbrockCGAnalyticFiniteVec(x *[2]float64) bool {
 	return true
 }
 
-// rosenbrockCGAnalyticDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// rosenbrockCGAnalyticDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type rosenbrockCGAnalyticDifferences struct {
 	ratio     [2]float64
 	curvature [2]float64
 	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see rosenbrockCGAnalyticRoundingFloor)
+	bounds    rosenbrockCGAnalyticBox
 }
 
 // rosenbrockCGAnalyticCalibrate: an analytic gradient needs no intervals.
@@ -384,8 +392,9 @@ func rosenbrockCGAnalyticCalibrate(x *[2]float64, fx float64, diffs *rosenbrockC
 }
 
 // rosenbrockCGAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func rosenbrockCGAnalyticDerivative(x *[2]float64, fx float64, g *[2]float64, diffs *rosenbrockCGAnalyticDifferences) {
+func rosenbrockCGAnalyticDerivative(x *[2]float64, fx float64, g *[2]float64, diffs *rosenbrockCGAnalyticDifferences) int {
 	RosenbrockGrad(x, g)
+	return 0
 }
 
 // rosenbrockCGAnalyticDirection is nonlinear conjugate gradients with the Polak–Ribière
@@ -517,13 +526,13 @@ func rosenbrockCGAnalyticConfirmGradient(x *[2]float64, fx float64, g, e *[2]flo
 		wide.ratio[i] *= 2
 	}
 	var doubled [2]float64
-	rosenbrockCGAnalyticDerivative(x, fx, g, diffs)
-	rosenbrockCGAnalyticDerivative(x, fx, &doubled, &wide)
+	calls += rosenbrockCGAnalyticDerivative(x, fx, g, diffs)
+	calls += rosenbrockCGAnalyticDerivative(x, fx, &doubled, &wide)
 	rosenbrockCGAnalyticGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * rosenbrockCGAnalyticAbs(g[i]-doubled[i])
 	}
-	return calls + 2*rosenbrockCGAnalyticDerivativeCost, true
+	return calls, true
 }
 
 // rosenbrockCGAnalyticGradientError: the analytic gradient is taken as exact; its error is
@@ -565,23 +574,70 @@ func rosenbrockCGAnalyticDiagonalCurvature(x, g *[2]float64, diffs *rosenbrockCG
 	var moved [2]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := rosenbrockCGAnalyticProbeStep(xi, rosenbrockCGAnalyticSquareRoot(rosenbrockCGAnalyticUnitRoundoff)*rosenbrockCGAnalyticLarger(1, rosenbrockCGAnalyticAbs(xi)))
-		probe[i] = up
-		RosenbrockGrad(&probe, &moved)
-		h[i] = rosenbrockCGAnalyticAbs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := rosenbrockCGAnalyticCoordinateRange(i, diffs)
+		up, delta := rosenbrockCGAnalyticProbeStep(xi, rosenbrockCGAnalyticOneSide(xi, rosenbrockCGAnalyticSquareRoot(rosenbrockCGAnalyticUnitRoundoff)*rosenbrockCGAnalyticLarger(1, rosenbrockCGAnalyticAbs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			RosenbrockGrad(&probe, &moved)
+			h[i] = rosenbrockCGAnalyticAbs(moved[i]-g[i]) / rosenbrockCGAnalyticAbs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// rosenbrockCGAnalyticProbeStep returns x_i moved by h, and the step actually representable.
-func rosenbrockCGAnalyticProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// rosenbrockCGAnalyticCoordinateRange: without bounds any probe is allowed.
+func rosenbrockCGAnalyticCoordinateRange(i int, diffs *rosenbrockCGAnalyticDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// rosenbrockCGAnalyticProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func rosenbrockCGAnalyticProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := rosenbrockCGAnalyticClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// rosenbrockCGAnalyticClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func rosenbrockCGAnalyticClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// rosenbrockCGAnalyticOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func rosenbrockCGAnalyticOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // rosenbrockCGAnalyticSquareRoot returns √v.
 func rosenbrockCGAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// rosenbrockCGAnalyticStationarity measures the gradient itself.
+func rosenbrockCGAnalyticStationarity(g, e, x *[2]float64, fx float64, b *rosenbrockCGAnalyticBox) (measure, floor float64) {
+	return rosenbrockCGAnalyticGradientMeasure(g, e, x, fx)
 }
 
 // rosenbrockCGAnalyticGradientMeasure is the scale-free measure
@@ -617,6 +673,14 @@ func rosenbrockCGAnalyticStepWithin(s, x *[2]float64, tol float64) bool {
 	return true
 }
 
+// rosenbrockCGAnalyticCurvaturePair: without bounds the pair is used as it is.
+func rosenbrockCGAnalyticCurvaturePair(s, y, x *[2]float64, b *rosenbrockCGAnalyticBox) {}
+
+// rosenbrockCGAnalyticSearchDirection is the direction's own.
+func rosenbrockCGAnalyticSearchDirection(dir *rosenbrockCGAnalyticDirection, x, g, d *[2]float64, b *rosenbrockCGAnalyticBox) {
+	dir.compute(g, d)
+}
+
 // rosenbrockCGAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func rosenbrockCGAnalyticTinyStep(x, d *[2]float64, tol float64) float64 {
@@ -644,7 +708,10 @@ func rosenbrockCGAnalyticTinyStep(x, d *[2]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (rosenbrockCGAnalyticStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -653,13 +720,17 @@ func rosenbrockCGAnalyticTinyStep(x, d *[2]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func rosenbrockCGAnalyticLineSearch(x *[2]float64, fx float64, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *rosenbrockCGAnalyticDifferences) rosenbrockCGAnalyticLineResult {
+func rosenbrockCGAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *rosenbrockCGAnalyticDifferences) rosenbrockCGAnalyticLineResult {
 	low := rosenbrockCGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high rosenbrockCGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                    // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend rosenbrockCGAnalyticRiseTrend // of the trials failing sufficient decrease
+	var trend rosenbrockCGAnalyticRiseTrend                         // of the trials failing sufficient decrease
+	limit := rosenbrockCGAnalyticStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < rosenbrockCGAnalyticStepTrials; trial++ {
 		if bracketed && rosenbrockCGAnalyticAbs(high.step-low.step) <= tiny {
@@ -669,12 +740,12 @@ func rosenbrockCGAnalyticLineSearch(x *[2]float64, fx float64, d *[2]float64, sl
 			if low.step == 0 {
 				return rosenbrockCGAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: rosenbrockCGAnalyticTinyOrExhausted(rosenbrockCGAnalyticFinite(high.value))}
 			}
-			return rosenbrockCGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return rosenbrockCGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return rosenbrockCGAnalyticLineResult{calls: calls, end: rosenbrockCGAnalyticSearchOutOfBudget}
 		}
-		rosenbrockCGAnalyticMoveTo(xt, x, t, d)
+		rosenbrockCGAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := rosenbrockCGAnalyticLinePoint{step: t, value: Rosenbrock(xt)}
 		calls++
 		previous := low
@@ -685,8 +756,7 @@ func rosenbrockCGAnalyticLineSearch(x *[2]float64, fx float64, d *[2]float64, sl
 			if calls+rosenbrockCGAnalyticDerivativeCost > budget {
 				return rosenbrockCGAnalyticLineResult{calls: calls, end: rosenbrockCGAnalyticSearchOutOfBudget}
 			}
-			rosenbrockCGAnalyticDerivative(xt, current.value, gt, diffs)
-			calls += rosenbrockCGAnalyticDerivativeCost
+			calls += rosenbrockCGAnalyticDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = rosenbrockCGAnalyticDot(gt, d), true
 			switch {
 			case !rosenbrockCGAnalyticFinite(current.slope):
@@ -697,18 +767,22 @@ func rosenbrockCGAnalyticLineSearch(x *[2]float64, fx float64, d *[2]float64, sl
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return rosenbrockCGAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: rosenbrockCGAnalyticSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = rosenbrockCGAnalyticZoomTrial(&low, &high)
-		} else {
-			t = rosenbrockCGAnalyticExpandTrial(&previous, &current)
+		} else if t = rosenbrockCGAnalyticExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return rosenbrockCGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return rosenbrockCGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return rosenbrockCGAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: rosenbrockCGAnalyticSearchExhausted}
 }
@@ -795,6 +869,11 @@ func rosenbrockCGAnalyticFaithfulStep(x, xt, d *[2]float64, t float64) bool {
 	return true
 }
 
+// rosenbrockCGAnalyticStepCap: without bounds a step may be as long as the search wants.
+func rosenbrockCGAnalyticStepCap(x, d *[2]float64, tiny float64, b *rosenbrockCGAnalyticBox) float64 {
+	return math.Inf(1)
+}
+
 // rosenbrockCGAnalyticTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -819,10 +898,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func rosenbrockCGAnalyticAcceptLow(x, d *[2]float64, low *rosenbrockCGAnalyticLinePoint, lowGradient *[2]float64, calls int, xt, gt *[2]float64) rosenbrockCGAnalyticLineResult {
-	rosenbrockCGAnalyticMoveTo(xt, x, low.step, d)
+func rosenbrockCGAnalyticAcceptLow(x, d *[2]float64, low *rosenbrockCGAnalyticLinePoint, lowGradient *[2]float64, calls int, xt, gt *[2]float64, diffs *rosenbrockCGAnalyticDifferences) rosenbrockCGAnalyticLineResult {
+	rosenbrockCGAnalyticTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return rosenbrockCGAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: rosenbrockCGAnalyticSearchAccepted}
+}
+
+// rosenbrockCGAnalyticTrialPoint is x + t·d.
+func rosenbrockCGAnalyticTrialPoint(out, x *[2]float64, t float64, d *[2]float64, b *rosenbrockCGAnalyticBox) {
+	rosenbrockCGAnalyticMoveTo(out, x, t, d)
 }
 
 // rosenbrockCGAnalyticMoveTo sets out = x + t·d.
@@ -877,21 +961,6 @@ func rosenbrockCGAnalyticModelMinimizer(a, b *rosenbrockCGAnalyticLinePoint) (t 
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, rosenbrockCGAnalyticFinite(t)
-}
-
-// rosenbrockCGAnalyticClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func rosenbrockCGAnalyticClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // rosenbrockCGAnalyticExpandTrial picks a larger trial after current met sufficient decrease

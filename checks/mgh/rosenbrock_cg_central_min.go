@@ -88,6 +88,9 @@ func RosenbrockCGCentralDefaultLimits() RosenbrockCGCentralLimits {
 	}
 }
 
+// rosenbrockCGCentralBox is empty: mgh.toml sets no bounds on RosenbrockCGCentral.
+type rosenbrockCGCentralBox struct{}
+
 // RosenbrockCGCentral minimizes Rosenbrock from x0, as mgh.toml specifies.
 //
 // Direction cg: nonlinear conjugate gradients, Polak–Ribière clipped at zero (PR+), restarted every dim steps.
@@ -105,7 +108,7 @@ func RosenbrockCGCentral(x0 [2]float64) RosenbrockCGCentralResult {
 
 // RosenbrockCGCentralWithLimits is RosenbrockCGCentral with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func RosenbrockCGCentralWithLimits(x0 [2]float64, limits RosenbrockCGCentralLimits) RosenbrockCGCentralResult {
-	out := rosenbrockCGCentralMinimize(x0, limits)
+	out := rosenbrockCGCentralMinimize(x0, limits, rosenbrockCGCentralBox{})
 	return RosenbrockCGCentralResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func rosenbrockCGCentralMinimize(x0 [2]float64, lim RosenbrockCGCentralLimits) rosenbrockCGCentralOutcome {
-	out := rosenbrockCGCentralOutcome{x: x0, status: RosenbrockCGCentralOutOfEvaluations, gradient: math.NaN()}
+func rosenbrockCGCentralMinimize(x0 [2]float64, lim RosenbrockCGCentralLimits, bounds rosenbrockCGCentralBox) rosenbrockCGCentralOutcome {
+	x := x0
+	rosenbrockCGCentralEnterBox(&x, &bounds)
+	out := rosenbrockCGCentralOutcome{x: x, status: RosenbrockCGCentralOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := Rosenbrock(&x)
 	out.f, out.evaluations = fx, 1
 	if !rosenbrockCGCentralFinite(fx) || !rosenbrockCGCentralFiniteVec(&x) {
 		out.status = RosenbrockCGCentralNonFiniteStart
 		return out
 	}
-	var diffs rosenbrockCGCentralDifferences
+	diffs := rosenbrockCGCentralDifferences{bounds: bounds}
 	calls, ok := rosenbrockCGCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+rosenbrockCGCentralDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [2]float64
-	rosenbrockCGCentralDerivative(&x, fx, &g, &diffs)
-	out.evaluations += rosenbrockCGCentralDerivativeCost
+	out.evaluations += rosenbrockCGCentralDerivative(&x, fx, &g, &diffs)
 
 	if !rosenbrockCGCentralFiniteVec(&g) {
 		out.status = RosenbrockCGCentralNonFiniteGradient
@@ -211,7 +214,7 @@ func rosenbrockCGCentralMinimize(x0 [2]float64, lim RosenbrockCGCentralLimits) r
 		case !confirmed:
 			rosenbrockCGCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := rosenbrockCGCentralGradientMeasure(&g, &e, &x, fx)
+		measure, floor := rosenbrockCGCentralStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, rosenbrockCGCentralLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func rosenbrockCGCentralMinimize(x0 [2]float64, lim RosenbrockCGCentralLimits) r
 			if rises >= 8 {
 				return best.ending(RosenbrockCGCentralDiverged, out.iterations, out.evaluations)
 			}
+			rosenbrockCGCentralCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(RosenbrockCGCentralOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		rosenbrockCGCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := rosenbrockCGCentralDot(&g, &d)
 		if !(now < 0) || !rosenbrockCGCentralFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			rosenbrockCGCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = rosenbrockCGCentralDot(&g, &d)
 		}
 		first := float64(rosenbrockCGCentralStepInitial)
@@ -267,7 +271,7 @@ func rosenbrockCGCentralMinimize(x0 [2]float64, lim RosenbrockCGCentralLimits) r
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := rosenbrockCGCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := rosenbrockCGCentralLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := rosenbrockCGCentralLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case rosenbrockCGCentralSearchOutOfBudget:
@@ -303,8 +307,7 @@ func rosenbrockCGCentralMinimize(x0 [2]float64, lim RosenbrockCGCentralLimits) r
 				}
 				return best.ending(RosenbrockCGCentralOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			rosenbrockCGCentralDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += rosenbrockCGCentralDerivativeCost
+			out.evaluations += rosenbrockCGCentralDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		rosenbrockCGCentralDifference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o rosenbrockCGCentralOutcome) ending(end RosenbrockCGCentralStatus, iterat
 	return o
 }
 
+// rosenbrockCGCentralEnterBox: without bounds every start is inside.
+func rosenbrockCGCentralEnterBox(x *[2]float64, b *rosenbrockCGCentralBox) {}
+
 // rosenbrockCGCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func rosenbrockCGCentralFiniteVec(x *[2]float64) bool {
 	return true
 }
 
-// rosenbrockCGCentralDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// rosenbrockCGCentralDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type rosenbrockCGCentralDifferences struct {
 	ratio     [2]float64
 	curvature [2]float64
 	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see rosenbrockCGCentralRoundingFloor)
+	bounds    rosenbrockCGCentralBox
 }
 
 // rosenbrockCGCentralCalibrate chooses each central-difference interval from the
@@ -397,19 +405,45 @@ func rosenbrockCGCentralCalibrate(x *[2]float64, fx float64, diffs *rosenbrockCG
 	var slope [2]float64
 	scale := rosenbrockCGCentralAbs(fx)
 	quarter := rosenbrockCGCentralSquareRoot(rosenbrockCGCentralSquareRoot(rosenbrockCGCentralUnitRoundoff)) // u^(1/4)
+	calls := 0
 	for i := range probe {
-		if 4*(i+1) > budget {
-			return 4 * i, false
+		if calls+4 > budget {
+			return calls, false
 		}
 		xi := probe[i]
 		bar := quarter * rosenbrockCGCentralLarger(1, rosenbrockCGCentralAbs(xi))
+		lower, upper := rosenbrockCGCentralCoordinateRange(i, diffs)
+		if xi+2*bar > upper || xi-2*bar < lower {
+			// At a bound: three probes on the side with room, at h, 2h
+			// and 3h, for f‴ ≈ (f(3h) − 3f(2h) + 3f(h) − f(0))/h³ (the
+			// third forward difference).
+			h := rosenbrockCGCentralOneSide(xi, bar, 3, lower, upper)
+			if h == 0 {
+				continue // fixed by equal bounds
+			}
+			var f [3]float64
+			for k := range f {
+				probe[i], _ = rosenbrockCGCentralProbeStep(xi, float64(k+1)*h, lower, upper)
+				f[k] = Rosenbrock(&probe)
+				scale = rosenbrockCGCentralLarger(scale, rosenbrockCGCentralMagnitude(f[k]))
+			}
+			probe[i] = xi
+			calls += 3
+			if rosenbrockCGCentralFinite(f[0]) && rosenbrockCGCentralFinite(f[1]) && rosenbrockCGCentralFinite(f[2]) {
+				diffs.curvature[i] = rosenbrockCGCentralAbs(f[2]-3*f[1]+3*f[0]-fx) / rosenbrockCGCentralAbs(h*h*h)
+				diffs.second[i] = rosenbrockCGCentralAbs(fx-2*f[0]+f[1]) / (h * h)
+				slope[i] = (-3*fx + 4*f[0] - f[1]) / (2 * h)
+			}
+			continue
+		}
 		var f [4]float64
 		for k, m := range [4]float64{2, 1, -1, -2} {
-			probe[i], _ = rosenbrockCGCentralProbeStep(xi, m*bar)
+			probe[i], _ = rosenbrockCGCentralProbeStep(xi, m*bar, lower, upper)
 			f[k] = Rosenbrock(&probe)
 			scale = rosenbrockCGCentralLarger(scale, rosenbrockCGCentralMagnitude(f[k]))
 		}
 		probe[i] = xi
+		calls += 4
 		if rosenbrockCGCentralFinite(f[0]) && rosenbrockCGCentralFinite(f[1]) && rosenbrockCGCentralFinite(f[2]) && rosenbrockCGCentralFinite(f[3]) {
 			diffs.curvature[i] = rosenbrockCGCentralAbs(f[0]-2*f[1]+2*f[2]-f[3]) / (2 * bar * bar * bar)
 			diffs.second[i] = rosenbrockCGCentralAbs(f[1]-2*fx+f[2]) / (bar * bar)
@@ -428,7 +462,7 @@ func rosenbrockCGCentralCalibrate(x *[2]float64, fx float64, diffs *rosenbrockCG
 		diffs.ratio[i] = rosenbrockCGCentralClampBetween(h, 64*rosenbrockCGCentralUnitRoundoff*s, bar) / s
 		diffs.curvature[i] = third
 	}
-	return 4 * len(probe), true
+	return calls, true
 }
 
 // rosenbrockCGCentralAbs returns |v|.
@@ -454,10 +488,48 @@ func rosenbrockCGCentralLarger(a, b float64) float64 {
 	return b
 }
 
-// rosenbrockCGCentralProbeStep returns x_i moved by h, and the step actually representable.
-func rosenbrockCGCentralProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// rosenbrockCGCentralCoordinateRange: without bounds any probe is allowed.
+func rosenbrockCGCentralCoordinateRange(i int, diffs *rosenbrockCGCentralDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// rosenbrockCGCentralOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func rosenbrockCGCentralOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
+}
+
+// rosenbrockCGCentralProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func rosenbrockCGCentralProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := rosenbrockCGCentralClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// rosenbrockCGCentralClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func rosenbrockCGCentralClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
 }
 
 // rosenbrockCGCentralMagnitude is |v| for a finite v and 0 otherwise: a probe that fell
@@ -493,42 +565,85 @@ func rosenbrockCGCentralCubeRoot(v float64) float64 {
 	return math.Cbrt(v)
 }
 
-// rosenbrockCGCentralClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func rosenbrockCGCentralClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
-}
-
 // rosenbrockCGCentralDerivative approximates the gradient by central differences,
 //
 //	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),
 //
 // with the intervals rosenbrockCGCentralCalibrate chose, h_i = ratio_i·max(1, |x_i|)
-// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls; fx is
-// not needed.
-func rosenbrockCGCentralDerivative(x *[2]float64, fx float64, g *[2]float64, diffs *rosenbrockCGCentralDifferences) {
+// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls. Where
+// a bound leaves no room on one side, the three-point endpoint formula on
+// the other side takes its place at the same cost (see parabola); a
+// variable fixed by equal bounds costs nothing and gets 0.
+func rosenbrockCGCentralDerivative(x *[2]float64, fx float64, g *[2]float64, diffs *rosenbrockCGCentralDifferences) int {
 	probe := *x
+	calls := 0
 	for i := range probe {
 		xi := probe[i]
-		h := diffs.ratio[i] * rosenbrockCGCentralLarger(1, rosenbrockCGCentralAbs(xi))
-		up, _ := rosenbrockCGCentralProbeStep(xi, h)
-		down, _ := rosenbrockCGCentralProbeStep(xi, -h)
-		probe[i] = up
-		fUp := Rosenbrock(&probe)
-		probe[i] = down
-		fDown := Rosenbrock(&probe)
-		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
-		probe[i] = xi
+		h, oneSided := rosenbrockCGCentralCentralInterval(x, i, diffs)
+		lower, upper := rosenbrockCGCentralCoordinateRange(i, diffs)
+		switch {
+		case h == 0:
+			g[i] = 0 // fixed by equal bounds
+			continue
+		case oneSided:
+			g[i], _, _ = rosenbrockCGCentralSidedProbes(&probe, i, fx, h, lower, upper) // the three-point endpoint formula
+		default:
+			up, _ := rosenbrockCGCentralProbeStep(xi, h, lower, upper)
+			down, _ := rosenbrockCGCentralProbeStep(xi, -h, lower, upper)
+			probe[i] = up
+			fUp := Rosenbrock(&probe)
+			probe[i] = down
+			fDown := Rosenbrock(&probe)
+			g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+			probe[i] = xi
+		}
+		calls += 2
 	}
+	return calls
+}
+
+// rosenbrockCGCentralCentralInterval is the interval of coordinate i at x, ratio_i·max(1,
+// |x_i|), and whether the box leaves room for probes on both sides; when
+// it does not, the interval is signed towards the side with room for
+// probes at h and 2h, and shortened where the box is narrower than that
+// (see rosenbrockCGCentralOneSide).
+func rosenbrockCGCentralCentralInterval(x *[2]float64, i int, diffs *rosenbrockCGCentralDifferences) (h float64, oneSided bool) {
+	lower, upper := rosenbrockCGCentralCoordinateRange(i, diffs)
+	h = diffs.ratio[i] * rosenbrockCGCentralLarger(1, rosenbrockCGCentralAbs(x[i]))
+	if x[i]+h <= upper && x[i]-h >= lower {
+		return h, false
+	}
+	return rosenbrockCGCentralOneSide(x[i], h, 2, lower, upper), true
+}
+
+// rosenbrockCGCentralSidedProbes evaluates f at x moved along coordinate i by h and by 2h,
+// kept within [lower, upper], and returns the slope and second derivative
+// of the parabola through them and (x, fx) (see parabola), and the larger
+// magnitude of the two values.
+func rosenbrockCGCentralSidedProbes(probe *[2]float64, i int, fx, h, lower, upper float64) (slope, second, size float64) {
+	xi := probe[i]
+	near, a := rosenbrockCGCentralProbeStep(xi, h, lower, upper)
+	far, b := rosenbrockCGCentralProbeStep(xi, 2*h, lower, upper)
+	probe[i] = near
+	fNear := Rosenbrock(probe)
+	probe[i] = far
+	fFar := Rosenbrock(probe)
+	probe[i] = xi
+	slope, second = rosenbrockCGCentralParabola(fx, a, fNear, b, fFar)
+	return slope, second, rosenbrockCGCentralLarger(rosenbrockCGCentralMagnitude(fNear), rosenbrockCGCentralMagnitude(fFar))
+}
+
+// rosenbrockCGCentralParabola returns the first and second derivatives at 0 of the parabola
+// through (0, f0), (a, fa) and (b, fb), for probes on one side of a bound.
+// With b = 2a they are the three-point endpoint formulas
+// f′ ≈ (−3f0 + 4fa − fb)/(2a), error a²|f‴|/3, and
+// f″ ≈ (f0 − 2fa + fb)/a² (Burden & Faires, Numerical Analysis, §4.1
+// and §4.1's second-derivative formulas, from memory); written for unequal
+// a and b, so that the representable steps can be used.
+func rosenbrockCGCentralParabola(f0, a, fa, b, fb float64) (slope, second float64) {
+	slope = -(a+b)/(a*b)*f0 + b/(a*(b-a))*fa - a/(b*(b-a))*fb
+	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
+	return slope, second
 }
 
 // rosenbrockCGCentralDirection is nonlinear conjugate gradients with the Polak–Ribière
@@ -650,13 +765,13 @@ func rosenbrockCGCentralConfirmGradient(x *[2]float64, fx float64, g, e *[2]floa
 		wide.ratio[i] *= 2
 	}
 	var doubled [2]float64
-	rosenbrockCGCentralDerivative(x, fx, g, diffs)
-	rosenbrockCGCentralDerivative(x, fx, &doubled, &wide)
+	calls += rosenbrockCGCentralDerivative(x, fx, g, diffs)
+	calls += rosenbrockCGCentralDerivative(x, fx, &doubled, &wide)
 	rosenbrockCGCentralGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * rosenbrockCGCentralAbs(g[i]-doubled[i])
 	}
-	return calls + 2*rosenbrockCGCentralDerivativeCost, true
+	return calls, true
 }
 
 // rosenbrockCGCentralGradientError bounds each central difference's error by twice its
@@ -666,8 +781,16 @@ func rosenbrockCGCentralConfirmGradient(x *[2]float64, fx float64, g, e *[2]floa
 func rosenbrockCGCentralGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *rosenbrockCGCentralDifferences) {
 	noise := rosenbrockCGCentralNoiseLevel(x, fx, g)
 	for i := range e {
-		h := diffs.ratio[i] * rosenbrockCGCentralLarger(1, rosenbrockCGCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		h, oneSided := rosenbrockCGCentralCentralInterval(x, i, diffs)
+		h = rosenbrockCGCentralAbs(h)
+		switch {
+		case h == 0:
+			e[i] = 0 // fixed by equal bounds
+		case oneSided:
+			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+		default:
+			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		}
 	}
 }
 
@@ -689,6 +812,11 @@ func rosenbrockCGCentralRoundingFloor(x, g, e *[2]float64, diffs *rosenbrockCGCe
 // calibration, which rosenbrockCGCentralConfirmGradient has just made at x.
 func rosenbrockCGCentralDiagonalCurvature(x, g *[2]float64, diffs *rosenbrockCGCentralDifferences, h *[2]float64) {
 	*h = diffs.second
+}
+
+// rosenbrockCGCentralStationarity measures the gradient itself.
+func rosenbrockCGCentralStationarity(g, e, x *[2]float64, fx float64, b *rosenbrockCGCentralBox) (measure, floor float64) {
+	return rosenbrockCGCentralGradientMeasure(g, e, x, fx)
 }
 
 // rosenbrockCGCentralGradientMeasure is the scale-free measure
@@ -724,6 +852,14 @@ func rosenbrockCGCentralStepWithin(s, x *[2]float64, tol float64) bool {
 	return true
 }
 
+// rosenbrockCGCentralCurvaturePair: without bounds the pair is used as it is.
+func rosenbrockCGCentralCurvaturePair(s, y, x *[2]float64, b *rosenbrockCGCentralBox) {}
+
+// rosenbrockCGCentralSearchDirection is the direction's own.
+func rosenbrockCGCentralSearchDirection(dir *rosenbrockCGCentralDirection, x, g, d *[2]float64, b *rosenbrockCGCentralBox) {
+	dir.compute(g, d)
+}
+
 // rosenbrockCGCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func rosenbrockCGCentralTinyStep(x, d *[2]float64, tol float64) float64 {
@@ -751,7 +887,10 @@ func rosenbrockCGCentralTinyStep(x, d *[2]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (rosenbrockCGCentralStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -760,13 +899,17 @@ func rosenbrockCGCentralTinyStep(x, d *[2]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func rosenbrockCGCentralLineSearch(x *[2]float64, fx float64, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *rosenbrockCGCentralDifferences) rosenbrockCGCentralLineResult {
+func rosenbrockCGCentralLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *rosenbrockCGCentralDifferences) rosenbrockCGCentralLineResult {
 	low := rosenbrockCGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high rosenbrockCGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                   // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend rosenbrockCGCentralRiseTrend // of the trials failing sufficient decrease
+	var trend rosenbrockCGCentralRiseTrend                         // of the trials failing sufficient decrease
+	limit := rosenbrockCGCentralStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < rosenbrockCGCentralStepTrials; trial++ {
 		if bracketed && rosenbrockCGCentralAbs(high.step-low.step) <= tiny {
@@ -776,12 +919,12 @@ func rosenbrockCGCentralLineSearch(x *[2]float64, fx float64, d *[2]float64, slo
 			if low.step == 0 {
 				return rosenbrockCGCentralLineResult{calls: calls, rising: trend.contradicts(), end: rosenbrockCGCentralTinyOrExhausted(rosenbrockCGCentralFinite(high.value))}
 			}
-			return rosenbrockCGCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return rosenbrockCGCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return rosenbrockCGCentralLineResult{calls: calls, end: rosenbrockCGCentralSearchOutOfBudget}
 		}
-		rosenbrockCGCentralMoveTo(xt, x, t, d)
+		rosenbrockCGCentralTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := rosenbrockCGCentralLinePoint{step: t, value: Rosenbrock(xt)}
 		calls++
 		previous := low
@@ -792,8 +935,7 @@ func rosenbrockCGCentralLineSearch(x *[2]float64, fx float64, d *[2]float64, slo
 			if calls+rosenbrockCGCentralDerivativeCost > budget {
 				return rosenbrockCGCentralLineResult{calls: calls, end: rosenbrockCGCentralSearchOutOfBudget}
 			}
-			rosenbrockCGCentralDerivative(xt, current.value, gt, diffs)
-			calls += rosenbrockCGCentralDerivativeCost
+			calls += rosenbrockCGCentralDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = rosenbrockCGCentralDot(gt, d), true
 			switch {
 			case !rosenbrockCGCentralFinite(current.slope):
@@ -804,18 +946,22 @@ func rosenbrockCGCentralLineSearch(x *[2]float64, fx float64, d *[2]float64, slo
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return rosenbrockCGCentralLineResult{step: t, value: current.value, calls: calls, gradient: true, end: rosenbrockCGCentralSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = rosenbrockCGCentralZoomTrial(&low, &high)
-		} else {
-			t = rosenbrockCGCentralExpandTrial(&previous, &current)
+		} else if t = rosenbrockCGCentralExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return rosenbrockCGCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return rosenbrockCGCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return rosenbrockCGCentralLineResult{calls: calls, rising: trend.contradicts(), end: rosenbrockCGCentralSearchExhausted}
 }
@@ -902,6 +1048,11 @@ func rosenbrockCGCentralFaithfulStep(x, xt, d *[2]float64, t float64) bool {
 	return true
 }
 
+// rosenbrockCGCentralStepCap: without bounds a step may be as long as the search wants.
+func rosenbrockCGCentralStepCap(x, d *[2]float64, tiny float64, b *rosenbrockCGCentralBox) float64 {
+	return math.Inf(1)
+}
+
 // rosenbrockCGCentralTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -926,10 +1077,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func rosenbrockCGCentralAcceptLow(x, d *[2]float64, low *rosenbrockCGCentralLinePoint, lowGradient *[2]float64, calls int, xt, gt *[2]float64) rosenbrockCGCentralLineResult {
-	rosenbrockCGCentralMoveTo(xt, x, low.step, d)
+func rosenbrockCGCentralAcceptLow(x, d *[2]float64, low *rosenbrockCGCentralLinePoint, lowGradient *[2]float64, calls int, xt, gt *[2]float64, diffs *rosenbrockCGCentralDifferences) rosenbrockCGCentralLineResult {
+	rosenbrockCGCentralTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return rosenbrockCGCentralLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: rosenbrockCGCentralSearchAccepted}
+}
+
+// rosenbrockCGCentralTrialPoint is x + t·d.
+func rosenbrockCGCentralTrialPoint(out, x *[2]float64, t float64, d *[2]float64, b *rosenbrockCGCentralBox) {
+	rosenbrockCGCentralMoveTo(out, x, t, d)
 }
 
 // rosenbrockCGCentralMoveTo sets out = x + t·d.

@@ -88,6 +88,9 @@ func RosenbrockLBFGSAnalyticDefaultLimits() RosenbrockLBFGSAnalyticLimits {
 	}
 }
 
+// rosenbrockLBFGSAnalyticBox is empty: mgh.toml sets no bounds on RosenbrockLBFGSAnalytic.
+type rosenbrockLBFGSAnalyticBox struct{}
+
 // RosenbrockLBFGSAnalytic minimizes Rosenbrock from x0, as mgh.toml specifies.
 //
 // Direction lbfgs: limited-memory BFGS: the last `memory` pairs, two-loop recursion (2·memory·dim numbers).
@@ -105,7 +108,7 @@ func RosenbrockLBFGSAnalytic(x0 [2]float64) RosenbrockLBFGSAnalyticResult {
 
 // RosenbrockLBFGSAnalyticWithLimits is RosenbrockLBFGSAnalytic with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func RosenbrockLBFGSAnalyticWithLimits(x0 [2]float64, limits RosenbrockLBFGSAnalyticLimits) RosenbrockLBFGSAnalyticResult {
-	out := rosenbrockLBFGSAnalyticMinimize(x0, limits)
+	out := rosenbrockLBFGSAnalyticMinimize(x0, limits, rosenbrockLBFGSAnalyticBox{})
 	return RosenbrockLBFGSAnalyticResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -159,27 +162,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func rosenbrockLBFGSAnalyticMinimize(x0 [2]float64, lim RosenbrockLBFGSAnalyticLimits) rosenbrockLBFGSAnalyticOutcome {
-	out := rosenbrockLBFGSAnalyticOutcome{x: x0, status: RosenbrockLBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
+func rosenbrockLBFGSAnalyticMinimize(x0 [2]float64, lim RosenbrockLBFGSAnalyticLimits, bounds rosenbrockLBFGSAnalyticBox) rosenbrockLBFGSAnalyticOutcome {
+	x := x0
+	rosenbrockLBFGSAnalyticEnterBox(&x, &bounds)
+	out := rosenbrockLBFGSAnalyticOutcome{x: x, status: RosenbrockLBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := Rosenbrock(&x)
 	out.f, out.evaluations = fx, 1
 	if !rosenbrockLBFGSAnalyticFinite(fx) || !rosenbrockLBFGSAnalyticFiniteVec(&x) {
 		out.status = RosenbrockLBFGSAnalyticNonFiniteStart
 		return out
 	}
-	var diffs rosenbrockLBFGSAnalyticDifferences
+	diffs := rosenbrockLBFGSAnalyticDifferences{bounds: bounds}
 	calls, ok := rosenbrockLBFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+rosenbrockLBFGSAnalyticDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [2]float64
-	rosenbrockLBFGSAnalyticDerivative(&x, fx, &g, &diffs)
-	out.evaluations += rosenbrockLBFGSAnalyticDerivativeCost
+	out.evaluations += rosenbrockLBFGSAnalyticDerivative(&x, fx, &g, &diffs)
 
 	if !rosenbrockLBFGSAnalyticFiniteVec(&g) {
 		out.status = RosenbrockLBFGSAnalyticNonFiniteGradient
@@ -212,7 +215,7 @@ func rosenbrockLBFGSAnalyticMinimize(x0 [2]float64, lim RosenbrockLBFGSAnalyticL
 		case !confirmed:
 			rosenbrockLBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := rosenbrockLBFGSAnalyticGradientMeasure(&g, &e, &x, fx)
+		measure, floor := rosenbrockLBFGSAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, rosenbrockLBFGSAnalyticLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -251,16 +254,17 @@ func rosenbrockLBFGSAnalyticMinimize(x0 [2]float64, lim RosenbrockLBFGSAnalyticL
 			if rises >= 8 {
 				return best.ending(RosenbrockLBFGSAnalyticDiverged, out.iterations, out.evaluations)
 			}
+			rosenbrockLBFGSAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(RosenbrockLBFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		rosenbrockLBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := rosenbrockLBFGSAnalyticDot(&g, &d)
 		if !(now < 0) || !rosenbrockLBFGSAnalyticFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			rosenbrockLBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = rosenbrockLBFGSAnalyticDot(&g, &d)
 		}
 		first := float64(rosenbrockLBFGSAnalyticStepInitial)
@@ -268,7 +272,7 @@ func rosenbrockLBFGSAnalyticMinimize(x0 [2]float64, lim RosenbrockLBFGSAnalyticL
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := rosenbrockLBFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := rosenbrockLBFGSAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := rosenbrockLBFGSAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case rosenbrockLBFGSAnalyticSearchOutOfBudget:
@@ -304,8 +308,7 @@ func rosenbrockLBFGSAnalyticMinimize(x0 [2]float64, lim RosenbrockLBFGSAnalyticL
 				}
 				return best.ending(RosenbrockLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			rosenbrockLBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += rosenbrockLBFGSAnalyticDerivativeCost
+			out.evaluations += rosenbrockLBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		rosenbrockLBFGSAnalyticDifference(&s, &xt, &x)
@@ -346,6 +349,9 @@ func (o rosenbrockLBFGSAnalyticOutcome) ending(end RosenbrockLBFGSAnalyticStatus
 	return o
 }
 
+// rosenbrockLBFGSAnalyticEnterBox: without bounds every start is inside.
+func rosenbrockLBFGSAnalyticEnterBox(x *[2]float64, b *rosenbrockLBFGSAnalyticBox) {}
+
 // rosenbrockLBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -368,15 +374,17 @@ func rosenbrockLBFGSAnalyticFiniteVec(x *[2]float64) bool {
 	return true
 }
 
-// rosenbrockLBFGSAnalyticDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// rosenbrockLBFGSAnalyticDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type rosenbrockLBFGSAnalyticDifferences struct {
 	ratio     [2]float64
 	curvature [2]float64
 	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see rosenbrockLBFGSAnalyticRoundingFloor)
+	bounds    rosenbrockLBFGSAnalyticBox
 }
 
 // rosenbrockLBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
@@ -385,8 +393,9 @@ func rosenbrockLBFGSAnalyticCalibrate(x *[2]float64, fx float64, diffs *rosenbro
 }
 
 // rosenbrockLBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func rosenbrockLBFGSAnalyticDerivative(x *[2]float64, fx float64, g *[2]float64, diffs *rosenbrockLBFGSAnalyticDifferences) {
+func rosenbrockLBFGSAnalyticDerivative(x *[2]float64, fx float64, g *[2]float64, diffs *rosenbrockLBFGSAnalyticDifferences) int {
 	RosenbrockGrad(x, g)
+	return 0
 }
 
 // rosenbrockLBFGSAnalyticDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
@@ -551,13 +560,13 @@ func rosenbrockLBFGSAnalyticConfirmGradient(x *[2]float64, fx float64, g, e *[2]
 		wide.ratio[i] *= 2
 	}
 	var doubled [2]float64
-	rosenbrockLBFGSAnalyticDerivative(x, fx, g, diffs)
-	rosenbrockLBFGSAnalyticDerivative(x, fx, &doubled, &wide)
+	calls += rosenbrockLBFGSAnalyticDerivative(x, fx, g, diffs)
+	calls += rosenbrockLBFGSAnalyticDerivative(x, fx, &doubled, &wide)
 	rosenbrockLBFGSAnalyticGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * rosenbrockLBFGSAnalyticAbs(g[i]-doubled[i])
 	}
-	return calls + 2*rosenbrockLBFGSAnalyticDerivativeCost, true
+	return calls, true
 }
 
 // rosenbrockLBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
@@ -599,18 +608,60 @@ func rosenbrockLBFGSAnalyticDiagonalCurvature(x, g *[2]float64, diffs *rosenbroc
 	var moved [2]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := rosenbrockLBFGSAnalyticProbeStep(xi, rosenbrockLBFGSAnalyticSquareRoot(rosenbrockLBFGSAnalyticUnitRoundoff)*rosenbrockLBFGSAnalyticLarger(1, rosenbrockLBFGSAnalyticAbs(xi)))
-		probe[i] = up
-		RosenbrockGrad(&probe, &moved)
-		h[i] = rosenbrockLBFGSAnalyticAbs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := rosenbrockLBFGSAnalyticCoordinateRange(i, diffs)
+		up, delta := rosenbrockLBFGSAnalyticProbeStep(xi, rosenbrockLBFGSAnalyticOneSide(xi, rosenbrockLBFGSAnalyticSquareRoot(rosenbrockLBFGSAnalyticUnitRoundoff)*rosenbrockLBFGSAnalyticLarger(1, rosenbrockLBFGSAnalyticAbs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			RosenbrockGrad(&probe, &moved)
+			h[i] = rosenbrockLBFGSAnalyticAbs(moved[i]-g[i]) / rosenbrockLBFGSAnalyticAbs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// rosenbrockLBFGSAnalyticProbeStep returns x_i moved by h, and the step actually representable.
-func rosenbrockLBFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// rosenbrockLBFGSAnalyticCoordinateRange: without bounds any probe is allowed.
+func rosenbrockLBFGSAnalyticCoordinateRange(i int, diffs *rosenbrockLBFGSAnalyticDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// rosenbrockLBFGSAnalyticProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func rosenbrockLBFGSAnalyticProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := rosenbrockLBFGSAnalyticClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// rosenbrockLBFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func rosenbrockLBFGSAnalyticClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// rosenbrockLBFGSAnalyticOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func rosenbrockLBFGSAnalyticOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // rosenbrockLBFGSAnalyticSquareRoot returns √v.
@@ -626,6 +677,11 @@ func rosenbrockLBFGSAnalyticLarger(a, b float64) float64 {
 		return a
 	}
 	return b
+}
+
+// rosenbrockLBFGSAnalyticStationarity measures the gradient itself.
+func rosenbrockLBFGSAnalyticStationarity(g, e, x *[2]float64, fx float64, b *rosenbrockLBFGSAnalyticBox) (measure, floor float64) {
+	return rosenbrockLBFGSAnalyticGradientMeasure(g, e, x, fx)
 }
 
 // rosenbrockLBFGSAnalyticGradientMeasure is the scale-free measure
@@ -661,6 +717,14 @@ func rosenbrockLBFGSAnalyticStepWithin(s, x *[2]float64, tol float64) bool {
 	return true
 }
 
+// rosenbrockLBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
+func rosenbrockLBFGSAnalyticCurvaturePair(s, y, x *[2]float64, b *rosenbrockLBFGSAnalyticBox) {}
+
+// rosenbrockLBFGSAnalyticSearchDirection is the direction's own.
+func rosenbrockLBFGSAnalyticSearchDirection(dir *rosenbrockLBFGSAnalyticDirection, x, g, d *[2]float64, b *rosenbrockLBFGSAnalyticBox) {
+	dir.compute(g, d)
+}
+
 // rosenbrockLBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func rosenbrockLBFGSAnalyticTinyStep(x, d *[2]float64, tol float64) float64 {
@@ -688,7 +752,10 @@ func rosenbrockLBFGSAnalyticTinyStep(x, d *[2]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (rosenbrockLBFGSAnalyticStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -697,13 +764,17 @@ func rosenbrockLBFGSAnalyticTinyStep(x, d *[2]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func rosenbrockLBFGSAnalyticLineSearch(x *[2]float64, fx float64, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *rosenbrockLBFGSAnalyticDifferences) rosenbrockLBFGSAnalyticLineResult {
+func rosenbrockLBFGSAnalyticLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *rosenbrockLBFGSAnalyticDifferences) rosenbrockLBFGSAnalyticLineResult {
 	low := rosenbrockLBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high rosenbrockLBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                       // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend rosenbrockLBFGSAnalyticRiseTrend // of the trials failing sufficient decrease
+	var trend rosenbrockLBFGSAnalyticRiseTrend                         // of the trials failing sufficient decrease
+	limit := rosenbrockLBFGSAnalyticStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < rosenbrockLBFGSAnalyticStepTrials; trial++ {
 		if bracketed && rosenbrockLBFGSAnalyticAbs(high.step-low.step) <= tiny {
@@ -713,12 +784,12 @@ func rosenbrockLBFGSAnalyticLineSearch(x *[2]float64, fx float64, d *[2]float64,
 			if low.step == 0 {
 				return rosenbrockLBFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: rosenbrockLBFGSAnalyticTinyOrExhausted(rosenbrockLBFGSAnalyticFinite(high.value))}
 			}
-			return rosenbrockLBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return rosenbrockLBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return rosenbrockLBFGSAnalyticLineResult{calls: calls, end: rosenbrockLBFGSAnalyticSearchOutOfBudget}
 		}
-		rosenbrockLBFGSAnalyticMoveTo(xt, x, t, d)
+		rosenbrockLBFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := rosenbrockLBFGSAnalyticLinePoint{step: t, value: Rosenbrock(xt)}
 		calls++
 		previous := low
@@ -729,8 +800,7 @@ func rosenbrockLBFGSAnalyticLineSearch(x *[2]float64, fx float64, d *[2]float64,
 			if calls+rosenbrockLBFGSAnalyticDerivativeCost > budget {
 				return rosenbrockLBFGSAnalyticLineResult{calls: calls, end: rosenbrockLBFGSAnalyticSearchOutOfBudget}
 			}
-			rosenbrockLBFGSAnalyticDerivative(xt, current.value, gt, diffs)
-			calls += rosenbrockLBFGSAnalyticDerivativeCost
+			calls += rosenbrockLBFGSAnalyticDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = rosenbrockLBFGSAnalyticDot(gt, d), true
 			switch {
 			case !rosenbrockLBFGSAnalyticFinite(current.slope):
@@ -741,18 +811,22 @@ func rosenbrockLBFGSAnalyticLineSearch(x *[2]float64, fx float64, d *[2]float64,
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return rosenbrockLBFGSAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: rosenbrockLBFGSAnalyticSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = rosenbrockLBFGSAnalyticZoomTrial(&low, &high)
-		} else {
-			t = rosenbrockLBFGSAnalyticExpandTrial(&previous, &current)
+		} else if t = rosenbrockLBFGSAnalyticExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return rosenbrockLBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return rosenbrockLBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return rosenbrockLBFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: rosenbrockLBFGSAnalyticSearchExhausted}
 }
@@ -839,6 +913,11 @@ func rosenbrockLBFGSAnalyticFaithfulStep(x, xt, d *[2]float64, t float64) bool {
 	return true
 }
 
+// rosenbrockLBFGSAnalyticStepCap: without bounds a step may be as long as the search wants.
+func rosenbrockLBFGSAnalyticStepCap(x, d *[2]float64, tiny float64, b *rosenbrockLBFGSAnalyticBox) float64 {
+	return math.Inf(1)
+}
+
 // rosenbrockLBFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -863,10 +942,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func rosenbrockLBFGSAnalyticAcceptLow(x, d *[2]float64, low *rosenbrockLBFGSAnalyticLinePoint, lowGradient *[2]float64, calls int, xt, gt *[2]float64) rosenbrockLBFGSAnalyticLineResult {
-	rosenbrockLBFGSAnalyticMoveTo(xt, x, low.step, d)
+func rosenbrockLBFGSAnalyticAcceptLow(x, d *[2]float64, low *rosenbrockLBFGSAnalyticLinePoint, lowGradient *[2]float64, calls int, xt, gt *[2]float64, diffs *rosenbrockLBFGSAnalyticDifferences) rosenbrockLBFGSAnalyticLineResult {
+	rosenbrockLBFGSAnalyticTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return rosenbrockLBFGSAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: rosenbrockLBFGSAnalyticSearchAccepted}
+}
+
+// rosenbrockLBFGSAnalyticTrialPoint is x + t·d.
+func rosenbrockLBFGSAnalyticTrialPoint(out, x *[2]float64, t float64, d *[2]float64, b *rosenbrockLBFGSAnalyticBox) {
+	rosenbrockLBFGSAnalyticMoveTo(out, x, t, d)
 }
 
 // rosenbrockLBFGSAnalyticMoveTo sets out = x + t·d.
@@ -921,21 +1005,6 @@ func rosenbrockLBFGSAnalyticModelMinimizer(a, b *rosenbrockLBFGSAnalyticLinePoin
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, rosenbrockLBFGSAnalyticFinite(t)
-}
-
-// rosenbrockLBFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func rosenbrockLBFGSAnalyticClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // rosenbrockLBFGSAnalyticExpandTrial picks a larger trial after current met sufficient decrease

@@ -88,6 +88,9 @@ func RosenbrockLBFGSCentralDefaultLimits() RosenbrockLBFGSCentralLimits {
 	}
 }
 
+// rosenbrockLBFGSCentralBox is empty: mgh.toml sets no bounds on RosenbrockLBFGSCentral.
+type rosenbrockLBFGSCentralBox struct{}
+
 // RosenbrockLBFGSCentral minimizes Rosenbrock from x0, as mgh.toml specifies.
 //
 // Direction lbfgs: limited-memory BFGS: the last `memory` pairs, two-loop recursion (2·memory·dim numbers).
@@ -105,7 +108,7 @@ func RosenbrockLBFGSCentral(x0 [2]float64) RosenbrockLBFGSCentralResult {
 
 // RosenbrockLBFGSCentralWithLimits is RosenbrockLBFGSCentral with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func RosenbrockLBFGSCentralWithLimits(x0 [2]float64, limits RosenbrockLBFGSCentralLimits) RosenbrockLBFGSCentralResult {
-	out := rosenbrockLBFGSCentralMinimize(x0, limits)
+	out := rosenbrockLBFGSCentralMinimize(x0, limits, rosenbrockLBFGSCentralBox{})
 	return RosenbrockLBFGSCentralResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -159,27 +162,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func rosenbrockLBFGSCentralMinimize(x0 [2]float64, lim RosenbrockLBFGSCentralLimits) rosenbrockLBFGSCentralOutcome {
-	out := rosenbrockLBFGSCentralOutcome{x: x0, status: RosenbrockLBFGSCentralOutOfEvaluations, gradient: math.NaN()}
+func rosenbrockLBFGSCentralMinimize(x0 [2]float64, lim RosenbrockLBFGSCentralLimits, bounds rosenbrockLBFGSCentralBox) rosenbrockLBFGSCentralOutcome {
+	x := x0
+	rosenbrockLBFGSCentralEnterBox(&x, &bounds)
+	out := rosenbrockLBFGSCentralOutcome{x: x, status: RosenbrockLBFGSCentralOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := Rosenbrock(&x)
 	out.f, out.evaluations = fx, 1
 	if !rosenbrockLBFGSCentralFinite(fx) || !rosenbrockLBFGSCentralFiniteVec(&x) {
 		out.status = RosenbrockLBFGSCentralNonFiniteStart
 		return out
 	}
-	var diffs rosenbrockLBFGSCentralDifferences
+	diffs := rosenbrockLBFGSCentralDifferences{bounds: bounds}
 	calls, ok := rosenbrockLBFGSCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+rosenbrockLBFGSCentralDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [2]float64
-	rosenbrockLBFGSCentralDerivative(&x, fx, &g, &diffs)
-	out.evaluations += rosenbrockLBFGSCentralDerivativeCost
+	out.evaluations += rosenbrockLBFGSCentralDerivative(&x, fx, &g, &diffs)
 
 	if !rosenbrockLBFGSCentralFiniteVec(&g) {
 		out.status = RosenbrockLBFGSCentralNonFiniteGradient
@@ -212,7 +215,7 @@ func rosenbrockLBFGSCentralMinimize(x0 [2]float64, lim RosenbrockLBFGSCentralLim
 		case !confirmed:
 			rosenbrockLBFGSCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := rosenbrockLBFGSCentralGradientMeasure(&g, &e, &x, fx)
+		measure, floor := rosenbrockLBFGSCentralStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, rosenbrockLBFGSCentralLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -251,16 +254,17 @@ func rosenbrockLBFGSCentralMinimize(x0 [2]float64, lim RosenbrockLBFGSCentralLim
 			if rises >= 8 {
 				return best.ending(RosenbrockLBFGSCentralDiverged, out.iterations, out.evaluations)
 			}
+			rosenbrockLBFGSCentralCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(RosenbrockLBFGSCentralOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		rosenbrockLBFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := rosenbrockLBFGSCentralDot(&g, &d)
 		if !(now < 0) || !rosenbrockLBFGSCentralFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			rosenbrockLBFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = rosenbrockLBFGSCentralDot(&g, &d)
 		}
 		first := float64(rosenbrockLBFGSCentralStepInitial)
@@ -268,7 +272,7 @@ func rosenbrockLBFGSCentralMinimize(x0 [2]float64, lim RosenbrockLBFGSCentralLim
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := rosenbrockLBFGSCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := rosenbrockLBFGSCentralLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := rosenbrockLBFGSCentralLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case rosenbrockLBFGSCentralSearchOutOfBudget:
@@ -304,8 +308,7 @@ func rosenbrockLBFGSCentralMinimize(x0 [2]float64, lim RosenbrockLBFGSCentralLim
 				}
 				return best.ending(RosenbrockLBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			rosenbrockLBFGSCentralDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += rosenbrockLBFGSCentralDerivativeCost
+			out.evaluations += rosenbrockLBFGSCentralDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		rosenbrockLBFGSCentralDifference(&s, &xt, &x)
@@ -346,6 +349,9 @@ func (o rosenbrockLBFGSCentralOutcome) ending(end RosenbrockLBFGSCentralStatus, 
 	return o
 }
 
+// rosenbrockLBFGSCentralEnterBox: without bounds every start is inside.
+func rosenbrockLBFGSCentralEnterBox(x *[2]float64, b *rosenbrockLBFGSCentralBox) {}
+
 // rosenbrockLBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -368,15 +374,17 @@ func rosenbrockLBFGSCentralFiniteVec(x *[2]float64) bool {
 	return true
 }
 
-// rosenbrockLBFGSCentralDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// rosenbrockLBFGSCentralDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type rosenbrockLBFGSCentralDifferences struct {
 	ratio     [2]float64
 	curvature [2]float64
 	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see rosenbrockLBFGSCentralRoundingFloor)
+	bounds    rosenbrockLBFGSCentralBox
 }
 
 // rosenbrockLBFGSCentralCalibrate chooses each central-difference interval from the
@@ -398,19 +406,45 @@ func rosenbrockLBFGSCentralCalibrate(x *[2]float64, fx float64, diffs *rosenbroc
 	var slope [2]float64
 	scale := rosenbrockLBFGSCentralAbs(fx)
 	quarter := rosenbrockLBFGSCentralSquareRoot(rosenbrockLBFGSCentralSquareRoot(rosenbrockLBFGSCentralUnitRoundoff)) // u^(1/4)
+	calls := 0
 	for i := range probe {
-		if 4*(i+1) > budget {
-			return 4 * i, false
+		if calls+4 > budget {
+			return calls, false
 		}
 		xi := probe[i]
 		bar := quarter * rosenbrockLBFGSCentralLarger(1, rosenbrockLBFGSCentralAbs(xi))
+		lower, upper := rosenbrockLBFGSCentralCoordinateRange(i, diffs)
+		if xi+2*bar > upper || xi-2*bar < lower {
+			// At a bound: three probes on the side with room, at h, 2h
+			// and 3h, for f‴ ≈ (f(3h) − 3f(2h) + 3f(h) − f(0))/h³ (the
+			// third forward difference).
+			h := rosenbrockLBFGSCentralOneSide(xi, bar, 3, lower, upper)
+			if h == 0 {
+				continue // fixed by equal bounds
+			}
+			var f [3]float64
+			for k := range f {
+				probe[i], _ = rosenbrockLBFGSCentralProbeStep(xi, float64(k+1)*h, lower, upper)
+				f[k] = Rosenbrock(&probe)
+				scale = rosenbrockLBFGSCentralLarger(scale, rosenbrockLBFGSCentralMagnitude(f[k]))
+			}
+			probe[i] = xi
+			calls += 3
+			if rosenbrockLBFGSCentralFinite(f[0]) && rosenbrockLBFGSCentralFinite(f[1]) && rosenbrockLBFGSCentralFinite(f[2]) {
+				diffs.curvature[i] = rosenbrockLBFGSCentralAbs(f[2]-3*f[1]+3*f[0]-fx) / rosenbrockLBFGSCentralAbs(h*h*h)
+				diffs.second[i] = rosenbrockLBFGSCentralAbs(fx-2*f[0]+f[1]) / (h * h)
+				slope[i] = (-3*fx + 4*f[0] - f[1]) / (2 * h)
+			}
+			continue
+		}
 		var f [4]float64
 		for k, m := range [4]float64{2, 1, -1, -2} {
-			probe[i], _ = rosenbrockLBFGSCentralProbeStep(xi, m*bar)
+			probe[i], _ = rosenbrockLBFGSCentralProbeStep(xi, m*bar, lower, upper)
 			f[k] = Rosenbrock(&probe)
 			scale = rosenbrockLBFGSCentralLarger(scale, rosenbrockLBFGSCentralMagnitude(f[k]))
 		}
 		probe[i] = xi
+		calls += 4
 		if rosenbrockLBFGSCentralFinite(f[0]) && rosenbrockLBFGSCentralFinite(f[1]) && rosenbrockLBFGSCentralFinite(f[2]) && rosenbrockLBFGSCentralFinite(f[3]) {
 			diffs.curvature[i] = rosenbrockLBFGSCentralAbs(f[0]-2*f[1]+2*f[2]-f[3]) / (2 * bar * bar * bar)
 			diffs.second[i] = rosenbrockLBFGSCentralAbs(f[1]-2*fx+f[2]) / (bar * bar)
@@ -429,7 +463,7 @@ func rosenbrockLBFGSCentralCalibrate(x *[2]float64, fx float64, diffs *rosenbroc
 		diffs.ratio[i] = rosenbrockLBFGSCentralClampBetween(h, 64*rosenbrockLBFGSCentralUnitRoundoff*s, bar) / s
 		diffs.curvature[i] = third
 	}
-	return 4 * len(probe), true
+	return calls, true
 }
 
 // rosenbrockLBFGSCentralAbs returns |v|.
@@ -455,10 +489,48 @@ func rosenbrockLBFGSCentralLarger(a, b float64) float64 {
 	return b
 }
 
-// rosenbrockLBFGSCentralProbeStep returns x_i moved by h, and the step actually representable.
-func rosenbrockLBFGSCentralProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// rosenbrockLBFGSCentralCoordinateRange: without bounds any probe is allowed.
+func rosenbrockLBFGSCentralCoordinateRange(i int, diffs *rosenbrockLBFGSCentralDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// rosenbrockLBFGSCentralOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func rosenbrockLBFGSCentralOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
+}
+
+// rosenbrockLBFGSCentralProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func rosenbrockLBFGSCentralProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := rosenbrockLBFGSCentralClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// rosenbrockLBFGSCentralClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func rosenbrockLBFGSCentralClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
 }
 
 // rosenbrockLBFGSCentralMagnitude is |v| for a finite v and 0 otherwise: a probe that fell
@@ -494,42 +566,85 @@ func rosenbrockLBFGSCentralCubeRoot(v float64) float64 {
 	return math.Cbrt(v)
 }
 
-// rosenbrockLBFGSCentralClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func rosenbrockLBFGSCentralClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
-}
-
 // rosenbrockLBFGSCentralDerivative approximates the gradient by central differences,
 //
 //	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),
 //
 // with the intervals rosenbrockLBFGSCentralCalibrate chose, h_i = ratio_i·max(1, |x_i|)
-// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls; fx is
-// not needed.
-func rosenbrockLBFGSCentralDerivative(x *[2]float64, fx float64, g *[2]float64, diffs *rosenbrockLBFGSCentralDifferences) {
+// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls. Where
+// a bound leaves no room on one side, the three-point endpoint formula on
+// the other side takes its place at the same cost (see parabola); a
+// variable fixed by equal bounds costs nothing and gets 0.
+func rosenbrockLBFGSCentralDerivative(x *[2]float64, fx float64, g *[2]float64, diffs *rosenbrockLBFGSCentralDifferences) int {
 	probe := *x
+	calls := 0
 	for i := range probe {
 		xi := probe[i]
-		h := diffs.ratio[i] * rosenbrockLBFGSCentralLarger(1, rosenbrockLBFGSCentralAbs(xi))
-		up, _ := rosenbrockLBFGSCentralProbeStep(xi, h)
-		down, _ := rosenbrockLBFGSCentralProbeStep(xi, -h)
-		probe[i] = up
-		fUp := Rosenbrock(&probe)
-		probe[i] = down
-		fDown := Rosenbrock(&probe)
-		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
-		probe[i] = xi
+		h, oneSided := rosenbrockLBFGSCentralCentralInterval(x, i, diffs)
+		lower, upper := rosenbrockLBFGSCentralCoordinateRange(i, diffs)
+		switch {
+		case h == 0:
+			g[i] = 0 // fixed by equal bounds
+			continue
+		case oneSided:
+			g[i], _, _ = rosenbrockLBFGSCentralSidedProbes(&probe, i, fx, h, lower, upper) // the three-point endpoint formula
+		default:
+			up, _ := rosenbrockLBFGSCentralProbeStep(xi, h, lower, upper)
+			down, _ := rosenbrockLBFGSCentralProbeStep(xi, -h, lower, upper)
+			probe[i] = up
+			fUp := Rosenbrock(&probe)
+			probe[i] = down
+			fDown := Rosenbrock(&probe)
+			g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+			probe[i] = xi
+		}
+		calls += 2
 	}
+	return calls
+}
+
+// rosenbrockLBFGSCentralCentralInterval is the interval of coordinate i at x, ratio_i·max(1,
+// |x_i|), and whether the box leaves room for probes on both sides; when
+// it does not, the interval is signed towards the side with room for
+// probes at h and 2h, and shortened where the box is narrower than that
+// (see rosenbrockLBFGSCentralOneSide).
+func rosenbrockLBFGSCentralCentralInterval(x *[2]float64, i int, diffs *rosenbrockLBFGSCentralDifferences) (h float64, oneSided bool) {
+	lower, upper := rosenbrockLBFGSCentralCoordinateRange(i, diffs)
+	h = diffs.ratio[i] * rosenbrockLBFGSCentralLarger(1, rosenbrockLBFGSCentralAbs(x[i]))
+	if x[i]+h <= upper && x[i]-h >= lower {
+		return h, false
+	}
+	return rosenbrockLBFGSCentralOneSide(x[i], h, 2, lower, upper), true
+}
+
+// rosenbrockLBFGSCentralSidedProbes evaluates f at x moved along coordinate i by h and by 2h,
+// kept within [lower, upper], and returns the slope and second derivative
+// of the parabola through them and (x, fx) (see parabola), and the larger
+// magnitude of the two values.
+func rosenbrockLBFGSCentralSidedProbes(probe *[2]float64, i int, fx, h, lower, upper float64) (slope, second, size float64) {
+	xi := probe[i]
+	near, a := rosenbrockLBFGSCentralProbeStep(xi, h, lower, upper)
+	far, b := rosenbrockLBFGSCentralProbeStep(xi, 2*h, lower, upper)
+	probe[i] = near
+	fNear := Rosenbrock(probe)
+	probe[i] = far
+	fFar := Rosenbrock(probe)
+	probe[i] = xi
+	slope, second = rosenbrockLBFGSCentralParabola(fx, a, fNear, b, fFar)
+	return slope, second, rosenbrockLBFGSCentralLarger(rosenbrockLBFGSCentralMagnitude(fNear), rosenbrockLBFGSCentralMagnitude(fFar))
+}
+
+// rosenbrockLBFGSCentralParabola returns the first and second derivatives at 0 of the parabola
+// through (0, f0), (a, fa) and (b, fb), for probes on one side of a bound.
+// With b = 2a they are the three-point endpoint formulas
+// f′ ≈ (−3f0 + 4fa − fb)/(2a), error a²|f‴|/3, and
+// f″ ≈ (f0 − 2fa + fb)/a² (Burden & Faires, Numerical Analysis, §4.1
+// and §4.1's second-derivative formulas, from memory); written for unequal
+// a and b, so that the representable steps can be used.
+func rosenbrockLBFGSCentralParabola(f0, a, fa, b, fb float64) (slope, second float64) {
+	slope = -(a+b)/(a*b)*f0 + b/(a*(b-a))*fa - a/(b*(b-a))*fb
+	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
+	return slope, second
 }
 
 // rosenbrockLBFGSCentralDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
@@ -694,13 +809,13 @@ func rosenbrockLBFGSCentralConfirmGradient(x *[2]float64, fx float64, g, e *[2]f
 		wide.ratio[i] *= 2
 	}
 	var doubled [2]float64
-	rosenbrockLBFGSCentralDerivative(x, fx, g, diffs)
-	rosenbrockLBFGSCentralDerivative(x, fx, &doubled, &wide)
+	calls += rosenbrockLBFGSCentralDerivative(x, fx, g, diffs)
+	calls += rosenbrockLBFGSCentralDerivative(x, fx, &doubled, &wide)
 	rosenbrockLBFGSCentralGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * rosenbrockLBFGSCentralAbs(g[i]-doubled[i])
 	}
-	return calls + 2*rosenbrockLBFGSCentralDerivativeCost, true
+	return calls, true
 }
 
 // rosenbrockLBFGSCentralGradientError bounds each central difference's error by twice its
@@ -710,8 +825,16 @@ func rosenbrockLBFGSCentralConfirmGradient(x *[2]float64, fx float64, g, e *[2]f
 func rosenbrockLBFGSCentralGradientError(x *[2]float64, fx float64, g, e *[2]float64, diffs *rosenbrockLBFGSCentralDifferences) {
 	noise := rosenbrockLBFGSCentralNoiseLevel(x, fx, g)
 	for i := range e {
-		h := diffs.ratio[i] * rosenbrockLBFGSCentralLarger(1, rosenbrockLBFGSCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		h, oneSided := rosenbrockLBFGSCentralCentralInterval(x, i, diffs)
+		h = rosenbrockLBFGSCentralAbs(h)
+		switch {
+		case h == 0:
+			e[i] = 0 // fixed by equal bounds
+		case oneSided:
+			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+		default:
+			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		}
 	}
 }
 
@@ -733,6 +856,11 @@ func rosenbrockLBFGSCentralRoundingFloor(x, g, e *[2]float64, diffs *rosenbrockL
 // calibration, which rosenbrockLBFGSCentralConfirmGradient has just made at x.
 func rosenbrockLBFGSCentralDiagonalCurvature(x, g *[2]float64, diffs *rosenbrockLBFGSCentralDifferences, h *[2]float64) {
 	*h = diffs.second
+}
+
+// rosenbrockLBFGSCentralStationarity measures the gradient itself.
+func rosenbrockLBFGSCentralStationarity(g, e, x *[2]float64, fx float64, b *rosenbrockLBFGSCentralBox) (measure, floor float64) {
+	return rosenbrockLBFGSCentralGradientMeasure(g, e, x, fx)
 }
 
 // rosenbrockLBFGSCentralGradientMeasure is the scale-free measure
@@ -768,6 +896,14 @@ func rosenbrockLBFGSCentralStepWithin(s, x *[2]float64, tol float64) bool {
 	return true
 }
 
+// rosenbrockLBFGSCentralCurvaturePair: without bounds the pair is used as it is.
+func rosenbrockLBFGSCentralCurvaturePair(s, y, x *[2]float64, b *rosenbrockLBFGSCentralBox) {}
+
+// rosenbrockLBFGSCentralSearchDirection is the direction's own.
+func rosenbrockLBFGSCentralSearchDirection(dir *rosenbrockLBFGSCentralDirection, x, g, d *[2]float64, b *rosenbrockLBFGSCentralBox) {
+	dir.compute(g, d)
+}
+
 // rosenbrockLBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func rosenbrockLBFGSCentralTinyStep(x, d *[2]float64, tol float64) float64 {
@@ -795,7 +931,10 @@ func rosenbrockLBFGSCentralTinyStep(x, d *[2]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (rosenbrockLBFGSCentralStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -804,13 +943,17 @@ func rosenbrockLBFGSCentralTinyStep(x, d *[2]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func rosenbrockLBFGSCentralLineSearch(x *[2]float64, fx float64, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *rosenbrockLBFGSCentralDifferences) rosenbrockLBFGSCentralLineResult {
+func rosenbrockLBFGSCentralLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *rosenbrockLBFGSCentralDifferences) rosenbrockLBFGSCentralLineResult {
 	low := rosenbrockLBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high rosenbrockLBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                                      // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend rosenbrockLBFGSCentralRiseTrend // of the trials failing sufficient decrease
+	var trend rosenbrockLBFGSCentralRiseTrend                         // of the trials failing sufficient decrease
+	limit := rosenbrockLBFGSCentralStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < rosenbrockLBFGSCentralStepTrials; trial++ {
 		if bracketed && rosenbrockLBFGSCentralAbs(high.step-low.step) <= tiny {
@@ -820,12 +963,12 @@ func rosenbrockLBFGSCentralLineSearch(x *[2]float64, fx float64, d *[2]float64, 
 			if low.step == 0 {
 				return rosenbrockLBFGSCentralLineResult{calls: calls, rising: trend.contradicts(), end: rosenbrockLBFGSCentralTinyOrExhausted(rosenbrockLBFGSCentralFinite(high.value))}
 			}
-			return rosenbrockLBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return rosenbrockLBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return rosenbrockLBFGSCentralLineResult{calls: calls, end: rosenbrockLBFGSCentralSearchOutOfBudget}
 		}
-		rosenbrockLBFGSCentralMoveTo(xt, x, t, d)
+		rosenbrockLBFGSCentralTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := rosenbrockLBFGSCentralLinePoint{step: t, value: Rosenbrock(xt)}
 		calls++
 		previous := low
@@ -836,8 +979,7 @@ func rosenbrockLBFGSCentralLineSearch(x *[2]float64, fx float64, d *[2]float64, 
 			if calls+rosenbrockLBFGSCentralDerivativeCost > budget {
 				return rosenbrockLBFGSCentralLineResult{calls: calls, end: rosenbrockLBFGSCentralSearchOutOfBudget}
 			}
-			rosenbrockLBFGSCentralDerivative(xt, current.value, gt, diffs)
-			calls += rosenbrockLBFGSCentralDerivativeCost
+			calls += rosenbrockLBFGSCentralDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = rosenbrockLBFGSCentralDot(gt, d), true
 			switch {
 			case !rosenbrockLBFGSCentralFinite(current.slope):
@@ -848,18 +990,22 @@ func rosenbrockLBFGSCentralLineSearch(x *[2]float64, fx float64, d *[2]float64, 
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return rosenbrockLBFGSCentralLineResult{step: t, value: current.value, calls: calls, gradient: true, end: rosenbrockLBFGSCentralSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = rosenbrockLBFGSCentralZoomTrial(&low, &high)
-		} else {
-			t = rosenbrockLBFGSCentralExpandTrial(&previous, &current)
+		} else if t = rosenbrockLBFGSCentralExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return rosenbrockLBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return rosenbrockLBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return rosenbrockLBFGSCentralLineResult{calls: calls, rising: trend.contradicts(), end: rosenbrockLBFGSCentralSearchExhausted}
 }
@@ -946,6 +1092,11 @@ func rosenbrockLBFGSCentralFaithfulStep(x, xt, d *[2]float64, t float64) bool {
 	return true
 }
 
+// rosenbrockLBFGSCentralStepCap: without bounds a step may be as long as the search wants.
+func rosenbrockLBFGSCentralStepCap(x, d *[2]float64, tiny float64, b *rosenbrockLBFGSCentralBox) float64 {
+	return math.Inf(1)
+}
+
 // rosenbrockLBFGSCentralTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -970,10 +1121,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func rosenbrockLBFGSCentralAcceptLow(x, d *[2]float64, low *rosenbrockLBFGSCentralLinePoint, lowGradient *[2]float64, calls int, xt, gt *[2]float64) rosenbrockLBFGSCentralLineResult {
-	rosenbrockLBFGSCentralMoveTo(xt, x, low.step, d)
+func rosenbrockLBFGSCentralAcceptLow(x, d *[2]float64, low *rosenbrockLBFGSCentralLinePoint, lowGradient *[2]float64, calls int, xt, gt *[2]float64, diffs *rosenbrockLBFGSCentralDifferences) rosenbrockLBFGSCentralLineResult {
+	rosenbrockLBFGSCentralTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return rosenbrockLBFGSCentralLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: rosenbrockLBFGSCentralSearchAccepted}
+}
+
+// rosenbrockLBFGSCentralTrialPoint is x + t·d.
+func rosenbrockLBFGSCentralTrialPoint(out, x *[2]float64, t float64, d *[2]float64, b *rosenbrockLBFGSCentralBox) {
+	rosenbrockLBFGSCentralMoveTo(out, x, t, d)
 }
 
 // rosenbrockLBFGSCentralMoveTo sets out = x + t·d.

@@ -88,6 +88,9 @@ func Trigonometric10BFGSAnalyticDefaultLimits() Trigonometric10BFGSAnalyticLimit
 	}
 }
 
+// trigonometric10BFGSAnalyticBox is empty: mgh.toml sets no bounds on Trigonometric10BFGSAnalytic.
+type trigonometric10BFGSAnalyticBox struct{}
+
 // Trigonometric10BFGSAnalytic minimizes Trigonometric10 from x0, as mgh.toml specifies.
 //
 // Direction bfgs: BFGS quasi-Newton with a dense inverse-Hessian approximation (dim² numbers).
@@ -105,7 +108,7 @@ func Trigonometric10BFGSAnalytic(x0 [10]float64) Trigonometric10BFGSAnalyticResu
 
 // Trigonometric10BFGSAnalyticWithLimits is Trigonometric10BFGSAnalytic with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func Trigonometric10BFGSAnalyticWithLimits(x0 [10]float64, limits Trigonometric10BFGSAnalyticLimits) Trigonometric10BFGSAnalyticResult {
-	out := trigonometric10BFGSAnalyticMinimize(x0, limits)
+	out := trigonometric10BFGSAnalyticMinimize(x0, limits, trigonometric10BFGSAnalyticBox{})
 	return Trigonometric10BFGSAnalyticResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func trigonometric10BFGSAnalyticMinimize(x0 [10]float64, lim Trigonometric10BFGSAnalyticLimits) trigonometric10BFGSAnalyticOutcome {
-	out := trigonometric10BFGSAnalyticOutcome{x: x0, status: Trigonometric10BFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
+func trigonometric10BFGSAnalyticMinimize(x0 [10]float64, lim Trigonometric10BFGSAnalyticLimits, bounds trigonometric10BFGSAnalyticBox) trigonometric10BFGSAnalyticOutcome {
+	x := x0
+	trigonometric10BFGSAnalyticEnterBox(&x, &bounds)
+	out := trigonometric10BFGSAnalyticOutcome{x: x, status: Trigonometric10BFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := Trigonometric10(&x)
 	out.f, out.evaluations = fx, 1
 	if !trigonometric10BFGSAnalyticFinite(fx) || !trigonometric10BFGSAnalyticFiniteVec(&x) {
 		out.status = Trigonometric10BFGSAnalyticNonFiniteStart
 		return out
 	}
-	var diffs trigonometric10BFGSAnalyticDifferences
+	diffs := trigonometric10BFGSAnalyticDifferences{bounds: bounds}
 	calls, ok := trigonometric10BFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+trigonometric10BFGSAnalyticDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [10]float64
-	trigonometric10BFGSAnalyticDerivative(&x, fx, &g, &diffs)
-	out.evaluations += trigonometric10BFGSAnalyticDerivativeCost
+	out.evaluations += trigonometric10BFGSAnalyticDerivative(&x, fx, &g, &diffs)
 
 	if !trigonometric10BFGSAnalyticFiniteVec(&g) {
 		out.status = Trigonometric10BFGSAnalyticNonFiniteGradient
@@ -211,7 +214,7 @@ func trigonometric10BFGSAnalyticMinimize(x0 [10]float64, lim Trigonometric10BFGS
 		case !confirmed:
 			trigonometric10BFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := trigonometric10BFGSAnalyticGradientMeasure(&g, &e, &x, fx)
+		measure, floor := trigonometric10BFGSAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, trigonometric10BFGSAnalyticLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func trigonometric10BFGSAnalyticMinimize(x0 [10]float64, lim Trigonometric10BFGS
 			if rises >= 8 {
 				return best.ending(Trigonometric10BFGSAnalyticDiverged, out.iterations, out.evaluations)
 			}
+			trigonometric10BFGSAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(Trigonometric10BFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		trigonometric10BFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := trigonometric10BFGSAnalyticDot(&g, &d)
 		if !(now < 0) || !trigonometric10BFGSAnalyticFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			trigonometric10BFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = trigonometric10BFGSAnalyticDot(&g, &d)
 		}
 		first := float64(trigonometric10BFGSAnalyticStepInitial)
@@ -267,7 +271,7 @@ func trigonometric10BFGSAnalyticMinimize(x0 [10]float64, lim Trigonometric10BFGS
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := trigonometric10BFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := trigonometric10BFGSAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := trigonometric10BFGSAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case trigonometric10BFGSAnalyticSearchOutOfBudget:
@@ -303,8 +307,7 @@ func trigonometric10BFGSAnalyticMinimize(x0 [10]float64, lim Trigonometric10BFGS
 				}
 				return best.ending(Trigonometric10BFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			trigonometric10BFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += trigonometric10BFGSAnalyticDerivativeCost
+			out.evaluations += trigonometric10BFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		trigonometric10BFGSAnalyticDifference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o trigonometric10BFGSAnalyticOutcome) ending(end Trigonometric10BFGSAnalyt
 	return o
 }
 
+// trigonometric10BFGSAnalyticEnterBox: without bounds every start is inside.
+func trigonometric10BFGSAnalyticEnterBox(x *[10]float64, b *trigonometric10BFGSAnalyticBox) {}
+
 // trigonometric10BFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func trigonometric10BFGSAnalyticFiniteVec(x *[10]float64) bool {
 	return true
 }
 
-// trigonometric10BFGSAnalyticDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// trigonometric10BFGSAnalyticDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type trigonometric10BFGSAnalyticDifferences struct {
 	ratio     [10]float64
 	curvature [10]float64
 	second    [10]float64 // |f″| along e_i, for the rounding floor of a stall (see trigonometric10BFGSAnalyticRoundingFloor)
+	bounds    trigonometric10BFGSAnalyticBox
 }
 
 // trigonometric10BFGSAnalyticCalibrate: an analytic gradient needs no intervals.
@@ -384,8 +392,9 @@ func trigonometric10BFGSAnalyticCalibrate(x *[10]float64, fx float64, diffs *tri
 }
 
 // trigonometric10BFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func trigonometric10BFGSAnalyticDerivative(x *[10]float64, fx float64, g *[10]float64, diffs *trigonometric10BFGSAnalyticDifferences) {
+func trigonometric10BFGSAnalyticDerivative(x *[10]float64, fx float64, g *[10]float64, diffs *trigonometric10BFGSAnalyticDifferences) int {
 	Trigonometric10Grad(x, g)
+	return 0
 }
 
 // trigonometric10BFGSAnalyticDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
@@ -525,13 +534,13 @@ func trigonometric10BFGSAnalyticConfirmGradient(x *[10]float64, fx float64, g, e
 		wide.ratio[i] *= 2
 	}
 	var doubled [10]float64
-	trigonometric10BFGSAnalyticDerivative(x, fx, g, diffs)
-	trigonometric10BFGSAnalyticDerivative(x, fx, &doubled, &wide)
+	calls += trigonometric10BFGSAnalyticDerivative(x, fx, g, diffs)
+	calls += trigonometric10BFGSAnalyticDerivative(x, fx, &doubled, &wide)
 	trigonometric10BFGSAnalyticGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * trigonometric10BFGSAnalyticAbs(g[i]-doubled[i])
 	}
-	return calls + 2*trigonometric10BFGSAnalyticDerivativeCost, true
+	return calls, true
 }
 
 // trigonometric10BFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
@@ -573,18 +582,60 @@ func trigonometric10BFGSAnalyticDiagonalCurvature(x, g *[10]float64, diffs *trig
 	var moved [10]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := trigonometric10BFGSAnalyticProbeStep(xi, trigonometric10BFGSAnalyticSquareRoot(trigonometric10BFGSAnalyticUnitRoundoff)*trigonometric10BFGSAnalyticLarger(1, trigonometric10BFGSAnalyticAbs(xi)))
-		probe[i] = up
-		Trigonometric10Grad(&probe, &moved)
-		h[i] = trigonometric10BFGSAnalyticAbs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := trigonometric10BFGSAnalyticCoordinateRange(i, diffs)
+		up, delta := trigonometric10BFGSAnalyticProbeStep(xi, trigonometric10BFGSAnalyticOneSide(xi, trigonometric10BFGSAnalyticSquareRoot(trigonometric10BFGSAnalyticUnitRoundoff)*trigonometric10BFGSAnalyticLarger(1, trigonometric10BFGSAnalyticAbs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			Trigonometric10Grad(&probe, &moved)
+			h[i] = trigonometric10BFGSAnalyticAbs(moved[i]-g[i]) / trigonometric10BFGSAnalyticAbs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// trigonometric10BFGSAnalyticProbeStep returns x_i moved by h, and the step actually representable.
-func trigonometric10BFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// trigonometric10BFGSAnalyticCoordinateRange: without bounds any probe is allowed.
+func trigonometric10BFGSAnalyticCoordinateRange(i int, diffs *trigonometric10BFGSAnalyticDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// trigonometric10BFGSAnalyticProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func trigonometric10BFGSAnalyticProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := trigonometric10BFGSAnalyticClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// trigonometric10BFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func trigonometric10BFGSAnalyticClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// trigonometric10BFGSAnalyticOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func trigonometric10BFGSAnalyticOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // trigonometric10BFGSAnalyticSquareRoot returns √v.
@@ -600,6 +651,11 @@ func trigonometric10BFGSAnalyticLarger(a, b float64) float64 {
 		return a
 	}
 	return b
+}
+
+// trigonometric10BFGSAnalyticStationarity measures the gradient itself.
+func trigonometric10BFGSAnalyticStationarity(g, e, x *[10]float64, fx float64, b *trigonometric10BFGSAnalyticBox) (measure, floor float64) {
+	return trigonometric10BFGSAnalyticGradientMeasure(g, e, x, fx)
 }
 
 // trigonometric10BFGSAnalyticGradientMeasure is the scale-free measure
@@ -635,6 +691,15 @@ func trigonometric10BFGSAnalyticStepWithin(s, x *[10]float64, tol float64) bool 
 	return true
 }
 
+// trigonometric10BFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
+func trigonometric10BFGSAnalyticCurvaturePair(s, y, x *[10]float64, b *trigonometric10BFGSAnalyticBox) {
+}
+
+// trigonometric10BFGSAnalyticSearchDirection is the direction's own.
+func trigonometric10BFGSAnalyticSearchDirection(dir *trigonometric10BFGSAnalyticDirection, x, g, d *[10]float64, b *trigonometric10BFGSAnalyticBox) {
+	dir.compute(g, d)
+}
+
 // trigonometric10BFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func trigonometric10BFGSAnalyticTinyStep(x, d *[10]float64, tol float64) float64 {
@@ -662,7 +727,10 @@ func trigonometric10BFGSAnalyticTinyStep(x, d *[10]float64, tol float64) float64
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (trigonometric10BFGSAnalyticStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -671,13 +739,17 @@ func trigonometric10BFGSAnalyticTinyStep(x, d *[10]float64, tol float64) float64
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func trigonometric10BFGSAnalyticLineSearch(x *[10]float64, fx float64, d *[10]float64, slope, first, tiny float64, budget int, xt, gt *[10]float64, diffs *trigonometric10BFGSAnalyticDifferences) trigonometric10BFGSAnalyticLineResult {
+func trigonometric10BFGSAnalyticLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first, tiny float64, budget int, xt, gt *[10]float64, diffs *trigonometric10BFGSAnalyticDifferences) trigonometric10BFGSAnalyticLineResult {
 	low := trigonometric10BFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high trigonometric10BFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                          // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend trigonometric10BFGSAnalyticRiseTrend // of the trials failing sufficient decrease
+	var trend trigonometric10BFGSAnalyticRiseTrend                         // of the trials failing sufficient decrease
+	limit := trigonometric10BFGSAnalyticStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < trigonometric10BFGSAnalyticStepTrials; trial++ {
 		if bracketed && trigonometric10BFGSAnalyticAbs(high.step-low.step) <= tiny {
@@ -687,12 +759,12 @@ func trigonometric10BFGSAnalyticLineSearch(x *[10]float64, fx float64, d *[10]fl
 			if low.step == 0 {
 				return trigonometric10BFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: trigonometric10BFGSAnalyticTinyOrExhausted(trigonometric10BFGSAnalyticFinite(high.value))}
 			}
-			return trigonometric10BFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return trigonometric10BFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return trigonometric10BFGSAnalyticLineResult{calls: calls, end: trigonometric10BFGSAnalyticSearchOutOfBudget}
 		}
-		trigonometric10BFGSAnalyticMoveTo(xt, x, t, d)
+		trigonometric10BFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := trigonometric10BFGSAnalyticLinePoint{step: t, value: Trigonometric10(xt)}
 		calls++
 		previous := low
@@ -703,8 +775,7 @@ func trigonometric10BFGSAnalyticLineSearch(x *[10]float64, fx float64, d *[10]fl
 			if calls+trigonometric10BFGSAnalyticDerivativeCost > budget {
 				return trigonometric10BFGSAnalyticLineResult{calls: calls, end: trigonometric10BFGSAnalyticSearchOutOfBudget}
 			}
-			trigonometric10BFGSAnalyticDerivative(xt, current.value, gt, diffs)
-			calls += trigonometric10BFGSAnalyticDerivativeCost
+			calls += trigonometric10BFGSAnalyticDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = trigonometric10BFGSAnalyticDot(gt, d), true
 			switch {
 			case !trigonometric10BFGSAnalyticFinite(current.slope):
@@ -715,18 +786,22 @@ func trigonometric10BFGSAnalyticLineSearch(x *[10]float64, fx float64, d *[10]fl
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return trigonometric10BFGSAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: trigonometric10BFGSAnalyticSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = trigonometric10BFGSAnalyticZoomTrial(&low, &high)
-		} else {
-			t = trigonometric10BFGSAnalyticExpandTrial(&previous, &current)
+		} else if t = trigonometric10BFGSAnalyticExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return trigonometric10BFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return trigonometric10BFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return trigonometric10BFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: trigonometric10BFGSAnalyticSearchExhausted}
 }
@@ -813,6 +888,11 @@ func trigonometric10BFGSAnalyticFaithfulStep(x, xt, d *[10]float64, t float64) b
 	return true
 }
 
+// trigonometric10BFGSAnalyticStepCap: without bounds a step may be as long as the search wants.
+func trigonometric10BFGSAnalyticStepCap(x, d *[10]float64, tiny float64, b *trigonometric10BFGSAnalyticBox) float64 {
+	return math.Inf(1)
+}
+
 // trigonometric10BFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -837,10 +917,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func trigonometric10BFGSAnalyticAcceptLow(x, d *[10]float64, low *trigonometric10BFGSAnalyticLinePoint, lowGradient *[10]float64, calls int, xt, gt *[10]float64) trigonometric10BFGSAnalyticLineResult {
-	trigonometric10BFGSAnalyticMoveTo(xt, x, low.step, d)
+func trigonometric10BFGSAnalyticAcceptLow(x, d *[10]float64, low *trigonometric10BFGSAnalyticLinePoint, lowGradient *[10]float64, calls int, xt, gt *[10]float64, diffs *trigonometric10BFGSAnalyticDifferences) trigonometric10BFGSAnalyticLineResult {
+	trigonometric10BFGSAnalyticTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return trigonometric10BFGSAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: trigonometric10BFGSAnalyticSearchAccepted}
+}
+
+// trigonometric10BFGSAnalyticTrialPoint is x + t·d.
+func trigonometric10BFGSAnalyticTrialPoint(out, x *[10]float64, t float64, d *[10]float64, b *trigonometric10BFGSAnalyticBox) {
+	trigonometric10BFGSAnalyticMoveTo(out, x, t, d)
 }
 
 // trigonometric10BFGSAnalyticMoveTo sets out = x + t·d.
@@ -895,21 +980,6 @@ func trigonometric10BFGSAnalyticModelMinimizer(a, b *trigonometric10BFGSAnalytic
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, trigonometric10BFGSAnalyticFinite(t)
-}
-
-// trigonometric10BFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func trigonometric10BFGSAnalyticClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // trigonometric10BFGSAnalyticExpandTrial picks a larger trial after current met sufficient decrease

@@ -88,6 +88,9 @@ func Trigonometric10BFGSCentralDefaultLimits() Trigonometric10BFGSCentralLimits 
 	}
 }
 
+// trigonometric10BFGSCentralBox is empty: mgh.toml sets no bounds on Trigonometric10BFGSCentral.
+type trigonometric10BFGSCentralBox struct{}
+
 // Trigonometric10BFGSCentral minimizes Trigonometric10 from x0, as mgh.toml specifies.
 //
 // Direction bfgs: BFGS quasi-Newton with a dense inverse-Hessian approximation (dim² numbers).
@@ -105,7 +108,7 @@ func Trigonometric10BFGSCentral(x0 [10]float64) Trigonometric10BFGSCentralResult
 
 // Trigonometric10BFGSCentralWithLimits is Trigonometric10BFGSCentral with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func Trigonometric10BFGSCentralWithLimits(x0 [10]float64, limits Trigonometric10BFGSCentralLimits) Trigonometric10BFGSCentralResult {
-	out := trigonometric10BFGSCentralMinimize(x0, limits)
+	out := trigonometric10BFGSCentralMinimize(x0, limits, trigonometric10BFGSCentralBox{})
 	return Trigonometric10BFGSCentralResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func trigonometric10BFGSCentralMinimize(x0 [10]float64, lim Trigonometric10BFGSCentralLimits) trigonometric10BFGSCentralOutcome {
-	out := trigonometric10BFGSCentralOutcome{x: x0, status: Trigonometric10BFGSCentralOutOfEvaluations, gradient: math.NaN()}
+func trigonometric10BFGSCentralMinimize(x0 [10]float64, lim Trigonometric10BFGSCentralLimits, bounds trigonometric10BFGSCentralBox) trigonometric10BFGSCentralOutcome {
+	x := x0
+	trigonometric10BFGSCentralEnterBox(&x, &bounds)
+	out := trigonometric10BFGSCentralOutcome{x: x, status: Trigonometric10BFGSCentralOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := Trigonometric10(&x)
 	out.f, out.evaluations = fx, 1
 	if !trigonometric10BFGSCentralFinite(fx) || !trigonometric10BFGSCentralFiniteVec(&x) {
 		out.status = Trigonometric10BFGSCentralNonFiniteStart
 		return out
 	}
-	var diffs trigonometric10BFGSCentralDifferences
+	diffs := trigonometric10BFGSCentralDifferences{bounds: bounds}
 	calls, ok := trigonometric10BFGSCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+trigonometric10BFGSCentralDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [10]float64
-	trigonometric10BFGSCentralDerivative(&x, fx, &g, &diffs)
-	out.evaluations += trigonometric10BFGSCentralDerivativeCost
+	out.evaluations += trigonometric10BFGSCentralDerivative(&x, fx, &g, &diffs)
 
 	if !trigonometric10BFGSCentralFiniteVec(&g) {
 		out.status = Trigonometric10BFGSCentralNonFiniteGradient
@@ -211,7 +214,7 @@ func trigonometric10BFGSCentralMinimize(x0 [10]float64, lim Trigonometric10BFGSC
 		case !confirmed:
 			trigonometric10BFGSCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := trigonometric10BFGSCentralGradientMeasure(&g, &e, &x, fx)
+		measure, floor := trigonometric10BFGSCentralStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, trigonometric10BFGSCentralLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func trigonometric10BFGSCentralMinimize(x0 [10]float64, lim Trigonometric10BFGSC
 			if rises >= 8 {
 				return best.ending(Trigonometric10BFGSCentralDiverged, out.iterations, out.evaluations)
 			}
+			trigonometric10BFGSCentralCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(Trigonometric10BFGSCentralOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		trigonometric10BFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := trigonometric10BFGSCentralDot(&g, &d)
 		if !(now < 0) || !trigonometric10BFGSCentralFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			trigonometric10BFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = trigonometric10BFGSCentralDot(&g, &d)
 		}
 		first := float64(trigonometric10BFGSCentralStepInitial)
@@ -267,7 +271,7 @@ func trigonometric10BFGSCentralMinimize(x0 [10]float64, lim Trigonometric10BFGSC
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := trigonometric10BFGSCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := trigonometric10BFGSCentralLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := trigonometric10BFGSCentralLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case trigonometric10BFGSCentralSearchOutOfBudget:
@@ -303,8 +307,7 @@ func trigonometric10BFGSCentralMinimize(x0 [10]float64, lim Trigonometric10BFGSC
 				}
 				return best.ending(Trigonometric10BFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			trigonometric10BFGSCentralDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += trigonometric10BFGSCentralDerivativeCost
+			out.evaluations += trigonometric10BFGSCentralDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		trigonometric10BFGSCentralDifference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o trigonometric10BFGSCentralOutcome) ending(end Trigonometric10BFGSCentral
 	return o
 }
 
+// trigonometric10BFGSCentralEnterBox: without bounds every start is inside.
+func trigonometric10BFGSCentralEnterBox(x *[10]float64, b *trigonometric10BFGSCentralBox) {}
+
 // trigonometric10BFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func trigonometric10BFGSCentralFiniteVec(x *[10]float64) bool {
 	return true
 }
 
-// trigonometric10BFGSCentralDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// trigonometric10BFGSCentralDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type trigonometric10BFGSCentralDifferences struct {
 	ratio     [10]float64
 	curvature [10]float64
 	second    [10]float64 // |f″| along e_i, for the rounding floor of a stall (see trigonometric10BFGSCentralRoundingFloor)
+	bounds    trigonometric10BFGSCentralBox
 }
 
 // trigonometric10BFGSCentralCalibrate chooses each central-difference interval from the
@@ -397,19 +405,45 @@ func trigonometric10BFGSCentralCalibrate(x *[10]float64, fx float64, diffs *trig
 	var slope [10]float64
 	scale := trigonometric10BFGSCentralAbs(fx)
 	quarter := trigonometric10BFGSCentralSquareRoot(trigonometric10BFGSCentralSquareRoot(trigonometric10BFGSCentralUnitRoundoff)) // u^(1/4)
+	calls := 0
 	for i := range probe {
-		if 4*(i+1) > budget {
-			return 4 * i, false
+		if calls+4 > budget {
+			return calls, false
 		}
 		xi := probe[i]
 		bar := quarter * trigonometric10BFGSCentralLarger(1, trigonometric10BFGSCentralAbs(xi))
+		lower, upper := trigonometric10BFGSCentralCoordinateRange(i, diffs)
+		if xi+2*bar > upper || xi-2*bar < lower {
+			// At a bound: three probes on the side with room, at h, 2h
+			// and 3h, for f‴ ≈ (f(3h) − 3f(2h) + 3f(h) − f(0))/h³ (the
+			// third forward difference).
+			h := trigonometric10BFGSCentralOneSide(xi, bar, 3, lower, upper)
+			if h == 0 {
+				continue // fixed by equal bounds
+			}
+			var f [3]float64
+			for k := range f {
+				probe[i], _ = trigonometric10BFGSCentralProbeStep(xi, float64(k+1)*h, lower, upper)
+				f[k] = Trigonometric10(&probe)
+				scale = trigonometric10BFGSCentralLarger(scale, trigonometric10BFGSCentralMagnitude(f[k]))
+			}
+			probe[i] = xi
+			calls += 3
+			if trigonometric10BFGSCentralFinite(f[0]) && trigonometric10BFGSCentralFinite(f[1]) && trigonometric10BFGSCentralFinite(f[2]) {
+				diffs.curvature[i] = trigonometric10BFGSCentralAbs(f[2]-3*f[1]+3*f[0]-fx) / trigonometric10BFGSCentralAbs(h*h*h)
+				diffs.second[i] = trigonometric10BFGSCentralAbs(fx-2*f[0]+f[1]) / (h * h)
+				slope[i] = (-3*fx + 4*f[0] - f[1]) / (2 * h)
+			}
+			continue
+		}
 		var f [4]float64
 		for k, m := range [4]float64{2, 1, -1, -2} {
-			probe[i], _ = trigonometric10BFGSCentralProbeStep(xi, m*bar)
+			probe[i], _ = trigonometric10BFGSCentralProbeStep(xi, m*bar, lower, upper)
 			f[k] = Trigonometric10(&probe)
 			scale = trigonometric10BFGSCentralLarger(scale, trigonometric10BFGSCentralMagnitude(f[k]))
 		}
 		probe[i] = xi
+		calls += 4
 		if trigonometric10BFGSCentralFinite(f[0]) && trigonometric10BFGSCentralFinite(f[1]) && trigonometric10BFGSCentralFinite(f[2]) && trigonometric10BFGSCentralFinite(f[3]) {
 			diffs.curvature[i] = trigonometric10BFGSCentralAbs(f[0]-2*f[1]+2*f[2]-f[3]) / (2 * bar * bar * bar)
 			diffs.second[i] = trigonometric10BFGSCentralAbs(f[1]-2*fx+f[2]) / (bar * bar)
@@ -428,7 +462,7 @@ func trigonometric10BFGSCentralCalibrate(x *[10]float64, fx float64, diffs *trig
 		diffs.ratio[i] = trigonometric10BFGSCentralClampBetween(h, 64*trigonometric10BFGSCentralUnitRoundoff*s, bar) / s
 		diffs.curvature[i] = third
 	}
-	return 4 * len(probe), true
+	return calls, true
 }
 
 // trigonometric10BFGSCentralAbs returns |v|.
@@ -454,10 +488,48 @@ func trigonometric10BFGSCentralLarger(a, b float64) float64 {
 	return b
 }
 
-// trigonometric10BFGSCentralProbeStep returns x_i moved by h, and the step actually representable.
-func trigonometric10BFGSCentralProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// trigonometric10BFGSCentralCoordinateRange: without bounds any probe is allowed.
+func trigonometric10BFGSCentralCoordinateRange(i int, diffs *trigonometric10BFGSCentralDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// trigonometric10BFGSCentralOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func trigonometric10BFGSCentralOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
+}
+
+// trigonometric10BFGSCentralProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func trigonometric10BFGSCentralProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := trigonometric10BFGSCentralClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// trigonometric10BFGSCentralClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func trigonometric10BFGSCentralClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
 }
 
 // trigonometric10BFGSCentralMagnitude is |v| for a finite v and 0 otherwise: a probe that fell
@@ -493,42 +565,85 @@ func trigonometric10BFGSCentralCubeRoot(v float64) float64 {
 	return math.Cbrt(v)
 }
 
-// trigonometric10BFGSCentralClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func trigonometric10BFGSCentralClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
-}
-
 // trigonometric10BFGSCentralDerivative approximates the gradient by central differences,
 //
 //	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),
 //
 // with the intervals trigonometric10BFGSCentralCalibrate chose, h_i = ratio_i·max(1, |x_i|)
-// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls; fx is
-// not needed.
-func trigonometric10BFGSCentralDerivative(x *[10]float64, fx float64, g *[10]float64, diffs *trigonometric10BFGSCentralDifferences) {
+// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls. Where
+// a bound leaves no room on one side, the three-point endpoint formula on
+// the other side takes its place at the same cost (see parabola); a
+// variable fixed by equal bounds costs nothing and gets 0.
+func trigonometric10BFGSCentralDerivative(x *[10]float64, fx float64, g *[10]float64, diffs *trigonometric10BFGSCentralDifferences) int {
 	probe := *x
+	calls := 0
 	for i := range probe {
 		xi := probe[i]
-		h := diffs.ratio[i] * trigonometric10BFGSCentralLarger(1, trigonometric10BFGSCentralAbs(xi))
-		up, _ := trigonometric10BFGSCentralProbeStep(xi, h)
-		down, _ := trigonometric10BFGSCentralProbeStep(xi, -h)
-		probe[i] = up
-		fUp := Trigonometric10(&probe)
-		probe[i] = down
-		fDown := Trigonometric10(&probe)
-		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
-		probe[i] = xi
+		h, oneSided := trigonometric10BFGSCentralCentralInterval(x, i, diffs)
+		lower, upper := trigonometric10BFGSCentralCoordinateRange(i, diffs)
+		switch {
+		case h == 0:
+			g[i] = 0 // fixed by equal bounds
+			continue
+		case oneSided:
+			g[i], _, _ = trigonometric10BFGSCentralSidedProbes(&probe, i, fx, h, lower, upper) // the three-point endpoint formula
+		default:
+			up, _ := trigonometric10BFGSCentralProbeStep(xi, h, lower, upper)
+			down, _ := trigonometric10BFGSCentralProbeStep(xi, -h, lower, upper)
+			probe[i] = up
+			fUp := Trigonometric10(&probe)
+			probe[i] = down
+			fDown := Trigonometric10(&probe)
+			g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+			probe[i] = xi
+		}
+		calls += 2
 	}
+	return calls
+}
+
+// trigonometric10BFGSCentralCentralInterval is the interval of coordinate i at x, ratio_i·max(1,
+// |x_i|), and whether the box leaves room for probes on both sides; when
+// it does not, the interval is signed towards the side with room for
+// probes at h and 2h, and shortened where the box is narrower than that
+// (see trigonometric10BFGSCentralOneSide).
+func trigonometric10BFGSCentralCentralInterval(x *[10]float64, i int, diffs *trigonometric10BFGSCentralDifferences) (h float64, oneSided bool) {
+	lower, upper := trigonometric10BFGSCentralCoordinateRange(i, diffs)
+	h = diffs.ratio[i] * trigonometric10BFGSCentralLarger(1, trigonometric10BFGSCentralAbs(x[i]))
+	if x[i]+h <= upper && x[i]-h >= lower {
+		return h, false
+	}
+	return trigonometric10BFGSCentralOneSide(x[i], h, 2, lower, upper), true
+}
+
+// trigonometric10BFGSCentralSidedProbes evaluates f at x moved along coordinate i by h and by 2h,
+// kept within [lower, upper], and returns the slope and second derivative
+// of the parabola through them and (x, fx) (see parabola), and the larger
+// magnitude of the two values.
+func trigonometric10BFGSCentralSidedProbes(probe *[10]float64, i int, fx, h, lower, upper float64) (slope, second, size float64) {
+	xi := probe[i]
+	near, a := trigonometric10BFGSCentralProbeStep(xi, h, lower, upper)
+	far, b := trigonometric10BFGSCentralProbeStep(xi, 2*h, lower, upper)
+	probe[i] = near
+	fNear := Trigonometric10(probe)
+	probe[i] = far
+	fFar := Trigonometric10(probe)
+	probe[i] = xi
+	slope, second = trigonometric10BFGSCentralParabola(fx, a, fNear, b, fFar)
+	return slope, second, trigonometric10BFGSCentralLarger(trigonometric10BFGSCentralMagnitude(fNear), trigonometric10BFGSCentralMagnitude(fFar))
+}
+
+// trigonometric10BFGSCentralParabola returns the first and second derivatives at 0 of the parabola
+// through (0, f0), (a, fa) and (b, fb), for probes on one side of a bound.
+// With b = 2a they are the three-point endpoint formulas
+// f′ ≈ (−3f0 + 4fa − fb)/(2a), error a²|f‴|/3, and
+// f″ ≈ (f0 − 2fa + fb)/a² (Burden & Faires, Numerical Analysis, §4.1
+// and §4.1's second-derivative formulas, from memory); written for unequal
+// a and b, so that the representable steps can be used.
+func trigonometric10BFGSCentralParabola(f0, a, fa, b, fb float64) (slope, second float64) {
+	slope = -(a+b)/(a*b)*f0 + b/(a*(b-a))*fa - a/(b*(b-a))*fb
+	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
+	return slope, second
 }
 
 // trigonometric10BFGSCentralDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
@@ -668,13 +783,13 @@ func trigonometric10BFGSCentralConfirmGradient(x *[10]float64, fx float64, g, e 
 		wide.ratio[i] *= 2
 	}
 	var doubled [10]float64
-	trigonometric10BFGSCentralDerivative(x, fx, g, diffs)
-	trigonometric10BFGSCentralDerivative(x, fx, &doubled, &wide)
+	calls += trigonometric10BFGSCentralDerivative(x, fx, g, diffs)
+	calls += trigonometric10BFGSCentralDerivative(x, fx, &doubled, &wide)
 	trigonometric10BFGSCentralGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * trigonometric10BFGSCentralAbs(g[i]-doubled[i])
 	}
-	return calls + 2*trigonometric10BFGSCentralDerivativeCost, true
+	return calls, true
 }
 
 // trigonometric10BFGSCentralGradientError bounds each central difference's error by twice its
@@ -684,8 +799,16 @@ func trigonometric10BFGSCentralConfirmGradient(x *[10]float64, fx float64, g, e 
 func trigonometric10BFGSCentralGradientError(x *[10]float64, fx float64, g, e *[10]float64, diffs *trigonometric10BFGSCentralDifferences) {
 	noise := trigonometric10BFGSCentralNoiseLevel(x, fx, g)
 	for i := range e {
-		h := diffs.ratio[i] * trigonometric10BFGSCentralLarger(1, trigonometric10BFGSCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		h, oneSided := trigonometric10BFGSCentralCentralInterval(x, i, diffs)
+		h = trigonometric10BFGSCentralAbs(h)
+		switch {
+		case h == 0:
+			e[i] = 0 // fixed by equal bounds
+		case oneSided:
+			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+		default:
+			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		}
 	}
 }
 
@@ -707,6 +830,11 @@ func trigonometric10BFGSCentralRoundingFloor(x, g, e *[10]float64, diffs *trigon
 // calibration, which trigonometric10BFGSCentralConfirmGradient has just made at x.
 func trigonometric10BFGSCentralDiagonalCurvature(x, g *[10]float64, diffs *trigonometric10BFGSCentralDifferences, h *[10]float64) {
 	*h = diffs.second
+}
+
+// trigonometric10BFGSCentralStationarity measures the gradient itself.
+func trigonometric10BFGSCentralStationarity(g, e, x *[10]float64, fx float64, b *trigonometric10BFGSCentralBox) (measure, floor float64) {
+	return trigonometric10BFGSCentralGradientMeasure(g, e, x, fx)
 }
 
 // trigonometric10BFGSCentralGradientMeasure is the scale-free measure
@@ -742,6 +870,15 @@ func trigonometric10BFGSCentralStepWithin(s, x *[10]float64, tol float64) bool {
 	return true
 }
 
+// trigonometric10BFGSCentralCurvaturePair: without bounds the pair is used as it is.
+func trigonometric10BFGSCentralCurvaturePair(s, y, x *[10]float64, b *trigonometric10BFGSCentralBox) {
+}
+
+// trigonometric10BFGSCentralSearchDirection is the direction's own.
+func trigonometric10BFGSCentralSearchDirection(dir *trigonometric10BFGSCentralDirection, x, g, d *[10]float64, b *trigonometric10BFGSCentralBox) {
+	dir.compute(g, d)
+}
+
 // trigonometric10BFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func trigonometric10BFGSCentralTinyStep(x, d *[10]float64, tol float64) float64 {
@@ -769,7 +906,10 @@ func trigonometric10BFGSCentralTinyStep(x, d *[10]float64, tol float64) float64 
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (trigonometric10BFGSCentralStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -778,13 +918,17 @@ func trigonometric10BFGSCentralTinyStep(x, d *[10]float64, tol float64) float64 
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func trigonometric10BFGSCentralLineSearch(x *[10]float64, fx float64, d *[10]float64, slope, first, tiny float64, budget int, xt, gt *[10]float64, diffs *trigonometric10BFGSCentralDifferences) trigonometric10BFGSCentralLineResult {
+func trigonometric10BFGSCentralLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first, tiny float64, budget int, xt, gt *[10]float64, diffs *trigonometric10BFGSCentralDifferences) trigonometric10BFGSCentralLineResult {
 	low := trigonometric10BFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high trigonometric10BFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                         // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend trigonometric10BFGSCentralRiseTrend // of the trials failing sufficient decrease
+	var trend trigonometric10BFGSCentralRiseTrend                         // of the trials failing sufficient decrease
+	limit := trigonometric10BFGSCentralStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < trigonometric10BFGSCentralStepTrials; trial++ {
 		if bracketed && trigonometric10BFGSCentralAbs(high.step-low.step) <= tiny {
@@ -794,12 +938,12 @@ func trigonometric10BFGSCentralLineSearch(x *[10]float64, fx float64, d *[10]flo
 			if low.step == 0 {
 				return trigonometric10BFGSCentralLineResult{calls: calls, rising: trend.contradicts(), end: trigonometric10BFGSCentralTinyOrExhausted(trigonometric10BFGSCentralFinite(high.value))}
 			}
-			return trigonometric10BFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return trigonometric10BFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return trigonometric10BFGSCentralLineResult{calls: calls, end: trigonometric10BFGSCentralSearchOutOfBudget}
 		}
-		trigonometric10BFGSCentralMoveTo(xt, x, t, d)
+		trigonometric10BFGSCentralTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := trigonometric10BFGSCentralLinePoint{step: t, value: Trigonometric10(xt)}
 		calls++
 		previous := low
@@ -810,8 +954,7 @@ func trigonometric10BFGSCentralLineSearch(x *[10]float64, fx float64, d *[10]flo
 			if calls+trigonometric10BFGSCentralDerivativeCost > budget {
 				return trigonometric10BFGSCentralLineResult{calls: calls, end: trigonometric10BFGSCentralSearchOutOfBudget}
 			}
-			trigonometric10BFGSCentralDerivative(xt, current.value, gt, diffs)
-			calls += trigonometric10BFGSCentralDerivativeCost
+			calls += trigonometric10BFGSCentralDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = trigonometric10BFGSCentralDot(gt, d), true
 			switch {
 			case !trigonometric10BFGSCentralFinite(current.slope):
@@ -822,18 +965,22 @@ func trigonometric10BFGSCentralLineSearch(x *[10]float64, fx float64, d *[10]flo
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return trigonometric10BFGSCentralLineResult{step: t, value: current.value, calls: calls, gradient: true, end: trigonometric10BFGSCentralSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = trigonometric10BFGSCentralZoomTrial(&low, &high)
-		} else {
-			t = trigonometric10BFGSCentralExpandTrial(&previous, &current)
+		} else if t = trigonometric10BFGSCentralExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return trigonometric10BFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return trigonometric10BFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return trigonometric10BFGSCentralLineResult{calls: calls, rising: trend.contradicts(), end: trigonometric10BFGSCentralSearchExhausted}
 }
@@ -920,6 +1067,11 @@ func trigonometric10BFGSCentralFaithfulStep(x, xt, d *[10]float64, t float64) bo
 	return true
 }
 
+// trigonometric10BFGSCentralStepCap: without bounds a step may be as long as the search wants.
+func trigonometric10BFGSCentralStepCap(x, d *[10]float64, tiny float64, b *trigonometric10BFGSCentralBox) float64 {
+	return math.Inf(1)
+}
+
 // trigonometric10BFGSCentralTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -944,10 +1096,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func trigonometric10BFGSCentralAcceptLow(x, d *[10]float64, low *trigonometric10BFGSCentralLinePoint, lowGradient *[10]float64, calls int, xt, gt *[10]float64) trigonometric10BFGSCentralLineResult {
-	trigonometric10BFGSCentralMoveTo(xt, x, low.step, d)
+func trigonometric10BFGSCentralAcceptLow(x, d *[10]float64, low *trigonometric10BFGSCentralLinePoint, lowGradient *[10]float64, calls int, xt, gt *[10]float64, diffs *trigonometric10BFGSCentralDifferences) trigonometric10BFGSCentralLineResult {
+	trigonometric10BFGSCentralTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return trigonometric10BFGSCentralLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: trigonometric10BFGSCentralSearchAccepted}
+}
+
+// trigonometric10BFGSCentralTrialPoint is x + t·d.
+func trigonometric10BFGSCentralTrialPoint(out, x *[10]float64, t float64, d *[10]float64, b *trigonometric10BFGSCentralBox) {
+	trigonometric10BFGSCentralMoveTo(out, x, t, d)
 }
 
 // trigonometric10BFGSCentralMoveTo sets out = x + t·d.

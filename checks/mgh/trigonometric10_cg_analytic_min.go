@@ -88,6 +88,9 @@ func Trigonometric10CGAnalyticDefaultLimits() Trigonometric10CGAnalyticLimits {
 	}
 }
 
+// trigonometric10CGAnalyticBox is empty: mgh.toml sets no bounds on Trigonometric10CGAnalytic.
+type trigonometric10CGAnalyticBox struct{}
+
 // Trigonometric10CGAnalytic minimizes Trigonometric10 from x0, as mgh.toml specifies.
 //
 // Direction cg: nonlinear conjugate gradients, Polak–Ribière clipped at zero (PR+), restarted every dim steps.
@@ -105,7 +108,7 @@ func Trigonometric10CGAnalytic(x0 [10]float64) Trigonometric10CGAnalyticResult {
 
 // Trigonometric10CGAnalyticWithLimits is Trigonometric10CGAnalytic with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func Trigonometric10CGAnalyticWithLimits(x0 [10]float64, limits Trigonometric10CGAnalyticLimits) Trigonometric10CGAnalyticResult {
-	out := trigonometric10CGAnalyticMinimize(x0, limits)
+	out := trigonometric10CGAnalyticMinimize(x0, limits, trigonometric10CGAnalyticBox{})
 	return Trigonometric10CGAnalyticResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func trigonometric10CGAnalyticMinimize(x0 [10]float64, lim Trigonometric10CGAnalyticLimits) trigonometric10CGAnalyticOutcome {
-	out := trigonometric10CGAnalyticOutcome{x: x0, status: Trigonometric10CGAnalyticOutOfEvaluations, gradient: math.NaN()}
+func trigonometric10CGAnalyticMinimize(x0 [10]float64, lim Trigonometric10CGAnalyticLimits, bounds trigonometric10CGAnalyticBox) trigonometric10CGAnalyticOutcome {
+	x := x0
+	trigonometric10CGAnalyticEnterBox(&x, &bounds)
+	out := trigonometric10CGAnalyticOutcome{x: x, status: Trigonometric10CGAnalyticOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := Trigonometric10(&x)
 	out.f, out.evaluations = fx, 1
 	if !trigonometric10CGAnalyticFinite(fx) || !trigonometric10CGAnalyticFiniteVec(&x) {
 		out.status = Trigonometric10CGAnalyticNonFiniteStart
 		return out
 	}
-	var diffs trigonometric10CGAnalyticDifferences
+	diffs := trigonometric10CGAnalyticDifferences{bounds: bounds}
 	calls, ok := trigonometric10CGAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+trigonometric10CGAnalyticDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [10]float64
-	trigonometric10CGAnalyticDerivative(&x, fx, &g, &diffs)
-	out.evaluations += trigonometric10CGAnalyticDerivativeCost
+	out.evaluations += trigonometric10CGAnalyticDerivative(&x, fx, &g, &diffs)
 
 	if !trigonometric10CGAnalyticFiniteVec(&g) {
 		out.status = Trigonometric10CGAnalyticNonFiniteGradient
@@ -211,7 +214,7 @@ func trigonometric10CGAnalyticMinimize(x0 [10]float64, lim Trigonometric10CGAnal
 		case !confirmed:
 			trigonometric10CGAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := trigonometric10CGAnalyticGradientMeasure(&g, &e, &x, fx)
+		measure, floor := trigonometric10CGAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, trigonometric10CGAnalyticLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func trigonometric10CGAnalyticMinimize(x0 [10]float64, lim Trigonometric10CGAnal
 			if rises >= 8 {
 				return best.ending(Trigonometric10CGAnalyticDiverged, out.iterations, out.evaluations)
 			}
+			trigonometric10CGAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(Trigonometric10CGAnalyticOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		trigonometric10CGAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := trigonometric10CGAnalyticDot(&g, &d)
 		if !(now < 0) || !trigonometric10CGAnalyticFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			trigonometric10CGAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = trigonometric10CGAnalyticDot(&g, &d)
 		}
 		first := float64(trigonometric10CGAnalyticStepInitial)
@@ -267,7 +271,7 @@ func trigonometric10CGAnalyticMinimize(x0 [10]float64, lim Trigonometric10CGAnal
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := trigonometric10CGAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := trigonometric10CGAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := trigonometric10CGAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case trigonometric10CGAnalyticSearchOutOfBudget:
@@ -303,8 +307,7 @@ func trigonometric10CGAnalyticMinimize(x0 [10]float64, lim Trigonometric10CGAnal
 				}
 				return best.ending(Trigonometric10CGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			trigonometric10CGAnalyticDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += trigonometric10CGAnalyticDerivativeCost
+			out.evaluations += trigonometric10CGAnalyticDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		trigonometric10CGAnalyticDifference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o trigonometric10CGAnalyticOutcome) ending(end Trigonometric10CGAnalyticSt
 	return o
 }
 
+// trigonometric10CGAnalyticEnterBox: without bounds every start is inside.
+func trigonometric10CGAnalyticEnterBox(x *[10]float64, b *trigonometric10CGAnalyticBox) {}
+
 // trigonometric10CGAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func trigonometric10CGAnalyticFiniteVec(x *[10]float64) bool {
 	return true
 }
 
-// trigonometric10CGAnalyticDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// trigonometric10CGAnalyticDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type trigonometric10CGAnalyticDifferences struct {
 	ratio     [10]float64
 	curvature [10]float64
 	second    [10]float64 // |f″| along e_i, for the rounding floor of a stall (see trigonometric10CGAnalyticRoundingFloor)
+	bounds    trigonometric10CGAnalyticBox
 }
 
 // trigonometric10CGAnalyticCalibrate: an analytic gradient needs no intervals.
@@ -384,8 +392,9 @@ func trigonometric10CGAnalyticCalibrate(x *[10]float64, fx float64, diffs *trigo
 }
 
 // trigonometric10CGAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func trigonometric10CGAnalyticDerivative(x *[10]float64, fx float64, g *[10]float64, diffs *trigonometric10CGAnalyticDifferences) {
+func trigonometric10CGAnalyticDerivative(x *[10]float64, fx float64, g *[10]float64, diffs *trigonometric10CGAnalyticDifferences) int {
 	Trigonometric10Grad(x, g)
+	return 0
 }
 
 // trigonometric10CGAnalyticDirection is nonlinear conjugate gradients with the Polak–Ribière
@@ -517,13 +526,13 @@ func trigonometric10CGAnalyticConfirmGradient(x *[10]float64, fx float64, g, e *
 		wide.ratio[i] *= 2
 	}
 	var doubled [10]float64
-	trigonometric10CGAnalyticDerivative(x, fx, g, diffs)
-	trigonometric10CGAnalyticDerivative(x, fx, &doubled, &wide)
+	calls += trigonometric10CGAnalyticDerivative(x, fx, g, diffs)
+	calls += trigonometric10CGAnalyticDerivative(x, fx, &doubled, &wide)
 	trigonometric10CGAnalyticGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * trigonometric10CGAnalyticAbs(g[i]-doubled[i])
 	}
-	return calls + 2*trigonometric10CGAnalyticDerivativeCost, true
+	return calls, true
 }
 
 // trigonometric10CGAnalyticGradientError: the analytic gradient is taken as exact; its error is
@@ -565,23 +574,70 @@ func trigonometric10CGAnalyticDiagonalCurvature(x, g *[10]float64, diffs *trigon
 	var moved [10]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := trigonometric10CGAnalyticProbeStep(xi, trigonometric10CGAnalyticSquareRoot(trigonometric10CGAnalyticUnitRoundoff)*trigonometric10CGAnalyticLarger(1, trigonometric10CGAnalyticAbs(xi)))
-		probe[i] = up
-		Trigonometric10Grad(&probe, &moved)
-		h[i] = trigonometric10CGAnalyticAbs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := trigonometric10CGAnalyticCoordinateRange(i, diffs)
+		up, delta := trigonometric10CGAnalyticProbeStep(xi, trigonometric10CGAnalyticOneSide(xi, trigonometric10CGAnalyticSquareRoot(trigonometric10CGAnalyticUnitRoundoff)*trigonometric10CGAnalyticLarger(1, trigonometric10CGAnalyticAbs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			Trigonometric10Grad(&probe, &moved)
+			h[i] = trigonometric10CGAnalyticAbs(moved[i]-g[i]) / trigonometric10CGAnalyticAbs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// trigonometric10CGAnalyticProbeStep returns x_i moved by h, and the step actually representable.
-func trigonometric10CGAnalyticProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// trigonometric10CGAnalyticCoordinateRange: without bounds any probe is allowed.
+func trigonometric10CGAnalyticCoordinateRange(i int, diffs *trigonometric10CGAnalyticDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// trigonometric10CGAnalyticProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func trigonometric10CGAnalyticProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := trigonometric10CGAnalyticClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// trigonometric10CGAnalyticClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func trigonometric10CGAnalyticClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// trigonometric10CGAnalyticOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func trigonometric10CGAnalyticOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // trigonometric10CGAnalyticSquareRoot returns √v.
 func trigonometric10CGAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// trigonometric10CGAnalyticStationarity measures the gradient itself.
+func trigonometric10CGAnalyticStationarity(g, e, x *[10]float64, fx float64, b *trigonometric10CGAnalyticBox) (measure, floor float64) {
+	return trigonometric10CGAnalyticGradientMeasure(g, e, x, fx)
 }
 
 // trigonometric10CGAnalyticGradientMeasure is the scale-free measure
@@ -617,6 +673,14 @@ func trigonometric10CGAnalyticStepWithin(s, x *[10]float64, tol float64) bool {
 	return true
 }
 
+// trigonometric10CGAnalyticCurvaturePair: without bounds the pair is used as it is.
+func trigonometric10CGAnalyticCurvaturePair(s, y, x *[10]float64, b *trigonometric10CGAnalyticBox) {}
+
+// trigonometric10CGAnalyticSearchDirection is the direction's own.
+func trigonometric10CGAnalyticSearchDirection(dir *trigonometric10CGAnalyticDirection, x, g, d *[10]float64, b *trigonometric10CGAnalyticBox) {
+	dir.compute(g, d)
+}
+
 // trigonometric10CGAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func trigonometric10CGAnalyticTinyStep(x, d *[10]float64, tol float64) float64 {
@@ -644,7 +708,10 @@ func trigonometric10CGAnalyticTinyStep(x, d *[10]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (trigonometric10CGAnalyticStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -653,13 +720,17 @@ func trigonometric10CGAnalyticTinyStep(x, d *[10]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func trigonometric10CGAnalyticLineSearch(x *[10]float64, fx float64, d *[10]float64, slope, first, tiny float64, budget int, xt, gt *[10]float64, diffs *trigonometric10CGAnalyticDifferences) trigonometric10CGAnalyticLineResult {
+func trigonometric10CGAnalyticLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first, tiny float64, budget int, xt, gt *[10]float64, diffs *trigonometric10CGAnalyticDifferences) trigonometric10CGAnalyticLineResult {
 	low := trigonometric10CGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high trigonometric10CGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                        // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend trigonometric10CGAnalyticRiseTrend // of the trials failing sufficient decrease
+	var trend trigonometric10CGAnalyticRiseTrend                         // of the trials failing sufficient decrease
+	limit := trigonometric10CGAnalyticStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < trigonometric10CGAnalyticStepTrials; trial++ {
 		if bracketed && trigonometric10CGAnalyticAbs(high.step-low.step) <= tiny {
@@ -669,12 +740,12 @@ func trigonometric10CGAnalyticLineSearch(x *[10]float64, fx float64, d *[10]floa
 			if low.step == 0 {
 				return trigonometric10CGAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: trigonometric10CGAnalyticTinyOrExhausted(trigonometric10CGAnalyticFinite(high.value))}
 			}
-			return trigonometric10CGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return trigonometric10CGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return trigonometric10CGAnalyticLineResult{calls: calls, end: trigonometric10CGAnalyticSearchOutOfBudget}
 		}
-		trigonometric10CGAnalyticMoveTo(xt, x, t, d)
+		trigonometric10CGAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := trigonometric10CGAnalyticLinePoint{step: t, value: Trigonometric10(xt)}
 		calls++
 		previous := low
@@ -685,8 +756,7 @@ func trigonometric10CGAnalyticLineSearch(x *[10]float64, fx float64, d *[10]floa
 			if calls+trigonometric10CGAnalyticDerivativeCost > budget {
 				return trigonometric10CGAnalyticLineResult{calls: calls, end: trigonometric10CGAnalyticSearchOutOfBudget}
 			}
-			trigonometric10CGAnalyticDerivative(xt, current.value, gt, diffs)
-			calls += trigonometric10CGAnalyticDerivativeCost
+			calls += trigonometric10CGAnalyticDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = trigonometric10CGAnalyticDot(gt, d), true
 			switch {
 			case !trigonometric10CGAnalyticFinite(current.slope):
@@ -697,18 +767,22 @@ func trigonometric10CGAnalyticLineSearch(x *[10]float64, fx float64, d *[10]floa
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return trigonometric10CGAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: trigonometric10CGAnalyticSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = trigonometric10CGAnalyticZoomTrial(&low, &high)
-		} else {
-			t = trigonometric10CGAnalyticExpandTrial(&previous, &current)
+		} else if t = trigonometric10CGAnalyticExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return trigonometric10CGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return trigonometric10CGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return trigonometric10CGAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: trigonometric10CGAnalyticSearchExhausted}
 }
@@ -795,6 +869,11 @@ func trigonometric10CGAnalyticFaithfulStep(x, xt, d *[10]float64, t float64) boo
 	return true
 }
 
+// trigonometric10CGAnalyticStepCap: without bounds a step may be as long as the search wants.
+func trigonometric10CGAnalyticStepCap(x, d *[10]float64, tiny float64, b *trigonometric10CGAnalyticBox) float64 {
+	return math.Inf(1)
+}
+
 // trigonometric10CGAnalyticTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -819,10 +898,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func trigonometric10CGAnalyticAcceptLow(x, d *[10]float64, low *trigonometric10CGAnalyticLinePoint, lowGradient *[10]float64, calls int, xt, gt *[10]float64) trigonometric10CGAnalyticLineResult {
-	trigonometric10CGAnalyticMoveTo(xt, x, low.step, d)
+func trigonometric10CGAnalyticAcceptLow(x, d *[10]float64, low *trigonometric10CGAnalyticLinePoint, lowGradient *[10]float64, calls int, xt, gt *[10]float64, diffs *trigonometric10CGAnalyticDifferences) trigonometric10CGAnalyticLineResult {
+	trigonometric10CGAnalyticTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return trigonometric10CGAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: trigonometric10CGAnalyticSearchAccepted}
+}
+
+// trigonometric10CGAnalyticTrialPoint is x + t·d.
+func trigonometric10CGAnalyticTrialPoint(out, x *[10]float64, t float64, d *[10]float64, b *trigonometric10CGAnalyticBox) {
+	trigonometric10CGAnalyticMoveTo(out, x, t, d)
 }
 
 // trigonometric10CGAnalyticMoveTo sets out = x + t·d.
@@ -877,21 +961,6 @@ func trigonometric10CGAnalyticModelMinimizer(a, b *trigonometric10CGAnalyticLine
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, trigonometric10CGAnalyticFinite(t)
-}
-
-// trigonometric10CGAnalyticClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func trigonometric10CGAnalyticClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // trigonometric10CGAnalyticExpandTrial picks a larger trial after current met sufficient decrease

@@ -88,6 +88,9 @@ func Trigonometric10LBFGSAnalyticDefaultLimits() Trigonometric10LBFGSAnalyticLim
 	}
 }
 
+// trigonometric10LBFGSAnalyticBox is empty: mgh.toml sets no bounds on Trigonometric10LBFGSAnalytic.
+type trigonometric10LBFGSAnalyticBox struct{}
+
 // Trigonometric10LBFGSAnalytic minimizes Trigonometric10 from x0, as mgh.toml specifies.
 //
 // Direction lbfgs: limited-memory BFGS: the last `memory` pairs, two-loop recursion (2·memory·dim numbers).
@@ -105,7 +108,7 @@ func Trigonometric10LBFGSAnalytic(x0 [10]float64) Trigonometric10LBFGSAnalyticRe
 
 // Trigonometric10LBFGSAnalyticWithLimits is Trigonometric10LBFGSAnalytic with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func Trigonometric10LBFGSAnalyticWithLimits(x0 [10]float64, limits Trigonometric10LBFGSAnalyticLimits) Trigonometric10LBFGSAnalyticResult {
-	out := trigonometric10LBFGSAnalyticMinimize(x0, limits)
+	out := trigonometric10LBFGSAnalyticMinimize(x0, limits, trigonometric10LBFGSAnalyticBox{})
 	return Trigonometric10LBFGSAnalyticResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -159,27 +162,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func trigonometric10LBFGSAnalyticMinimize(x0 [10]float64, lim Trigonometric10LBFGSAnalyticLimits) trigonometric10LBFGSAnalyticOutcome {
-	out := trigonometric10LBFGSAnalyticOutcome{x: x0, status: Trigonometric10LBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
+func trigonometric10LBFGSAnalyticMinimize(x0 [10]float64, lim Trigonometric10LBFGSAnalyticLimits, bounds trigonometric10LBFGSAnalyticBox) trigonometric10LBFGSAnalyticOutcome {
+	x := x0
+	trigonometric10LBFGSAnalyticEnterBox(&x, &bounds)
+	out := trigonometric10LBFGSAnalyticOutcome{x: x, status: Trigonometric10LBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := Trigonometric10(&x)
 	out.f, out.evaluations = fx, 1
 	if !trigonometric10LBFGSAnalyticFinite(fx) || !trigonometric10LBFGSAnalyticFiniteVec(&x) {
 		out.status = Trigonometric10LBFGSAnalyticNonFiniteStart
 		return out
 	}
-	var diffs trigonometric10LBFGSAnalyticDifferences
+	diffs := trigonometric10LBFGSAnalyticDifferences{bounds: bounds}
 	calls, ok := trigonometric10LBFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+trigonometric10LBFGSAnalyticDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [10]float64
-	trigonometric10LBFGSAnalyticDerivative(&x, fx, &g, &diffs)
-	out.evaluations += trigonometric10LBFGSAnalyticDerivativeCost
+	out.evaluations += trigonometric10LBFGSAnalyticDerivative(&x, fx, &g, &diffs)
 
 	if !trigonometric10LBFGSAnalyticFiniteVec(&g) {
 		out.status = Trigonometric10LBFGSAnalyticNonFiniteGradient
@@ -212,7 +215,7 @@ func trigonometric10LBFGSAnalyticMinimize(x0 [10]float64, lim Trigonometric10LBF
 		case !confirmed:
 			trigonometric10LBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := trigonometric10LBFGSAnalyticGradientMeasure(&g, &e, &x, fx)
+		measure, floor := trigonometric10LBFGSAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, trigonometric10LBFGSAnalyticLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -251,16 +254,17 @@ func trigonometric10LBFGSAnalyticMinimize(x0 [10]float64, lim Trigonometric10LBF
 			if rises >= 8 {
 				return best.ending(Trigonometric10LBFGSAnalyticDiverged, out.iterations, out.evaluations)
 			}
+			trigonometric10LBFGSAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(Trigonometric10LBFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		trigonometric10LBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := trigonometric10LBFGSAnalyticDot(&g, &d)
 		if !(now < 0) || !trigonometric10LBFGSAnalyticFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			trigonometric10LBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = trigonometric10LBFGSAnalyticDot(&g, &d)
 		}
 		first := float64(trigonometric10LBFGSAnalyticStepInitial)
@@ -268,7 +272,7 @@ func trigonometric10LBFGSAnalyticMinimize(x0 [10]float64, lim Trigonometric10LBF
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := trigonometric10LBFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := trigonometric10LBFGSAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := trigonometric10LBFGSAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case trigonometric10LBFGSAnalyticSearchOutOfBudget:
@@ -304,8 +308,7 @@ func trigonometric10LBFGSAnalyticMinimize(x0 [10]float64, lim Trigonometric10LBF
 				}
 				return best.ending(Trigonometric10LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			trigonometric10LBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += trigonometric10LBFGSAnalyticDerivativeCost
+			out.evaluations += trigonometric10LBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		trigonometric10LBFGSAnalyticDifference(&s, &xt, &x)
@@ -346,6 +349,9 @@ func (o trigonometric10LBFGSAnalyticOutcome) ending(end Trigonometric10LBFGSAnal
 	return o
 }
 
+// trigonometric10LBFGSAnalyticEnterBox: without bounds every start is inside.
+func trigonometric10LBFGSAnalyticEnterBox(x *[10]float64, b *trigonometric10LBFGSAnalyticBox) {}
+
 // trigonometric10LBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -368,15 +374,17 @@ func trigonometric10LBFGSAnalyticFiniteVec(x *[10]float64) bool {
 	return true
 }
 
-// trigonometric10LBFGSAnalyticDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// trigonometric10LBFGSAnalyticDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type trigonometric10LBFGSAnalyticDifferences struct {
 	ratio     [10]float64
 	curvature [10]float64
 	second    [10]float64 // |f″| along e_i, for the rounding floor of a stall (see trigonometric10LBFGSAnalyticRoundingFloor)
+	bounds    trigonometric10LBFGSAnalyticBox
 }
 
 // trigonometric10LBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
@@ -385,8 +393,9 @@ func trigonometric10LBFGSAnalyticCalibrate(x *[10]float64, fx float64, diffs *tr
 }
 
 // trigonometric10LBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func trigonometric10LBFGSAnalyticDerivative(x *[10]float64, fx float64, g *[10]float64, diffs *trigonometric10LBFGSAnalyticDifferences) {
+func trigonometric10LBFGSAnalyticDerivative(x *[10]float64, fx float64, g *[10]float64, diffs *trigonometric10LBFGSAnalyticDifferences) int {
 	Trigonometric10Grad(x, g)
+	return 0
 }
 
 // trigonometric10LBFGSAnalyticDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
@@ -551,13 +560,13 @@ func trigonometric10LBFGSAnalyticConfirmGradient(x *[10]float64, fx float64, g, 
 		wide.ratio[i] *= 2
 	}
 	var doubled [10]float64
-	trigonometric10LBFGSAnalyticDerivative(x, fx, g, diffs)
-	trigonometric10LBFGSAnalyticDerivative(x, fx, &doubled, &wide)
+	calls += trigonometric10LBFGSAnalyticDerivative(x, fx, g, diffs)
+	calls += trigonometric10LBFGSAnalyticDerivative(x, fx, &doubled, &wide)
 	trigonometric10LBFGSAnalyticGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * trigonometric10LBFGSAnalyticAbs(g[i]-doubled[i])
 	}
-	return calls + 2*trigonometric10LBFGSAnalyticDerivativeCost, true
+	return calls, true
 }
 
 // trigonometric10LBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
@@ -599,18 +608,60 @@ func trigonometric10LBFGSAnalyticDiagonalCurvature(x, g *[10]float64, diffs *tri
 	var moved [10]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := trigonometric10LBFGSAnalyticProbeStep(xi, trigonometric10LBFGSAnalyticSquareRoot(trigonometric10LBFGSAnalyticUnitRoundoff)*trigonometric10LBFGSAnalyticLarger(1, trigonometric10LBFGSAnalyticAbs(xi)))
-		probe[i] = up
-		Trigonometric10Grad(&probe, &moved)
-		h[i] = trigonometric10LBFGSAnalyticAbs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := trigonometric10LBFGSAnalyticCoordinateRange(i, diffs)
+		up, delta := trigonometric10LBFGSAnalyticProbeStep(xi, trigonometric10LBFGSAnalyticOneSide(xi, trigonometric10LBFGSAnalyticSquareRoot(trigonometric10LBFGSAnalyticUnitRoundoff)*trigonometric10LBFGSAnalyticLarger(1, trigonometric10LBFGSAnalyticAbs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			Trigonometric10Grad(&probe, &moved)
+			h[i] = trigonometric10LBFGSAnalyticAbs(moved[i]-g[i]) / trigonometric10LBFGSAnalyticAbs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// trigonometric10LBFGSAnalyticProbeStep returns x_i moved by h, and the step actually representable.
-func trigonometric10LBFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// trigonometric10LBFGSAnalyticCoordinateRange: without bounds any probe is allowed.
+func trigonometric10LBFGSAnalyticCoordinateRange(i int, diffs *trigonometric10LBFGSAnalyticDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// trigonometric10LBFGSAnalyticProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func trigonometric10LBFGSAnalyticProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := trigonometric10LBFGSAnalyticClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// trigonometric10LBFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func trigonometric10LBFGSAnalyticClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// trigonometric10LBFGSAnalyticOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func trigonometric10LBFGSAnalyticOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // trigonometric10LBFGSAnalyticSquareRoot returns √v.
@@ -626,6 +677,11 @@ func trigonometric10LBFGSAnalyticLarger(a, b float64) float64 {
 		return a
 	}
 	return b
+}
+
+// trigonometric10LBFGSAnalyticStationarity measures the gradient itself.
+func trigonometric10LBFGSAnalyticStationarity(g, e, x *[10]float64, fx float64, b *trigonometric10LBFGSAnalyticBox) (measure, floor float64) {
+	return trigonometric10LBFGSAnalyticGradientMeasure(g, e, x, fx)
 }
 
 // trigonometric10LBFGSAnalyticGradientMeasure is the scale-free measure
@@ -661,6 +717,15 @@ func trigonometric10LBFGSAnalyticStepWithin(s, x *[10]float64, tol float64) bool
 	return true
 }
 
+// trigonometric10LBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
+func trigonometric10LBFGSAnalyticCurvaturePair(s, y, x *[10]float64, b *trigonometric10LBFGSAnalyticBox) {
+}
+
+// trigonometric10LBFGSAnalyticSearchDirection is the direction's own.
+func trigonometric10LBFGSAnalyticSearchDirection(dir *trigonometric10LBFGSAnalyticDirection, x, g, d *[10]float64, b *trigonometric10LBFGSAnalyticBox) {
+	dir.compute(g, d)
+}
+
 // trigonometric10LBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func trigonometric10LBFGSAnalyticTinyStep(x, d *[10]float64, tol float64) float64 {
@@ -688,7 +753,10 @@ func trigonometric10LBFGSAnalyticTinyStep(x, d *[10]float64, tol float64) float6
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (trigonometric10LBFGSAnalyticStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -697,13 +765,17 @@ func trigonometric10LBFGSAnalyticTinyStep(x, d *[10]float64, tol float64) float6
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func trigonometric10LBFGSAnalyticLineSearch(x *[10]float64, fx float64, d *[10]float64, slope, first, tiny float64, budget int, xt, gt *[10]float64, diffs *trigonometric10LBFGSAnalyticDifferences) trigonometric10LBFGSAnalyticLineResult {
+func trigonometric10LBFGSAnalyticLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first, tiny float64, budget int, xt, gt *[10]float64, diffs *trigonometric10LBFGSAnalyticDifferences) trigonometric10LBFGSAnalyticLineResult {
 	low := trigonometric10LBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high trigonometric10LBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                           // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend trigonometric10LBFGSAnalyticRiseTrend // of the trials failing sufficient decrease
+	var trend trigonometric10LBFGSAnalyticRiseTrend                         // of the trials failing sufficient decrease
+	limit := trigonometric10LBFGSAnalyticStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < trigonometric10LBFGSAnalyticStepTrials; trial++ {
 		if bracketed && trigonometric10LBFGSAnalyticAbs(high.step-low.step) <= tiny {
@@ -713,12 +785,12 @@ func trigonometric10LBFGSAnalyticLineSearch(x *[10]float64, fx float64, d *[10]f
 			if low.step == 0 {
 				return trigonometric10LBFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: trigonometric10LBFGSAnalyticTinyOrExhausted(trigonometric10LBFGSAnalyticFinite(high.value))}
 			}
-			return trigonometric10LBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return trigonometric10LBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return trigonometric10LBFGSAnalyticLineResult{calls: calls, end: trigonometric10LBFGSAnalyticSearchOutOfBudget}
 		}
-		trigonometric10LBFGSAnalyticMoveTo(xt, x, t, d)
+		trigonometric10LBFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := trigonometric10LBFGSAnalyticLinePoint{step: t, value: Trigonometric10(xt)}
 		calls++
 		previous := low
@@ -729,8 +801,7 @@ func trigonometric10LBFGSAnalyticLineSearch(x *[10]float64, fx float64, d *[10]f
 			if calls+trigonometric10LBFGSAnalyticDerivativeCost > budget {
 				return trigonometric10LBFGSAnalyticLineResult{calls: calls, end: trigonometric10LBFGSAnalyticSearchOutOfBudget}
 			}
-			trigonometric10LBFGSAnalyticDerivative(xt, current.value, gt, diffs)
-			calls += trigonometric10LBFGSAnalyticDerivativeCost
+			calls += trigonometric10LBFGSAnalyticDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = trigonometric10LBFGSAnalyticDot(gt, d), true
 			switch {
 			case !trigonometric10LBFGSAnalyticFinite(current.slope):
@@ -741,18 +812,22 @@ func trigonometric10LBFGSAnalyticLineSearch(x *[10]float64, fx float64, d *[10]f
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return trigonometric10LBFGSAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: trigonometric10LBFGSAnalyticSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = trigonometric10LBFGSAnalyticZoomTrial(&low, &high)
-		} else {
-			t = trigonometric10LBFGSAnalyticExpandTrial(&previous, &current)
+		} else if t = trigonometric10LBFGSAnalyticExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return trigonometric10LBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return trigonometric10LBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return trigonometric10LBFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: trigonometric10LBFGSAnalyticSearchExhausted}
 }
@@ -839,6 +914,11 @@ func trigonometric10LBFGSAnalyticFaithfulStep(x, xt, d *[10]float64, t float64) 
 	return true
 }
 
+// trigonometric10LBFGSAnalyticStepCap: without bounds a step may be as long as the search wants.
+func trigonometric10LBFGSAnalyticStepCap(x, d *[10]float64, tiny float64, b *trigonometric10LBFGSAnalyticBox) float64 {
+	return math.Inf(1)
+}
+
 // trigonometric10LBFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -863,10 +943,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func trigonometric10LBFGSAnalyticAcceptLow(x, d *[10]float64, low *trigonometric10LBFGSAnalyticLinePoint, lowGradient *[10]float64, calls int, xt, gt *[10]float64) trigonometric10LBFGSAnalyticLineResult {
-	trigonometric10LBFGSAnalyticMoveTo(xt, x, low.step, d)
+func trigonometric10LBFGSAnalyticAcceptLow(x, d *[10]float64, low *trigonometric10LBFGSAnalyticLinePoint, lowGradient *[10]float64, calls int, xt, gt *[10]float64, diffs *trigonometric10LBFGSAnalyticDifferences) trigonometric10LBFGSAnalyticLineResult {
+	trigonometric10LBFGSAnalyticTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return trigonometric10LBFGSAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: trigonometric10LBFGSAnalyticSearchAccepted}
+}
+
+// trigonometric10LBFGSAnalyticTrialPoint is x + t·d.
+func trigonometric10LBFGSAnalyticTrialPoint(out, x *[10]float64, t float64, d *[10]float64, b *trigonometric10LBFGSAnalyticBox) {
+	trigonometric10LBFGSAnalyticMoveTo(out, x, t, d)
 }
 
 // trigonometric10LBFGSAnalyticMoveTo sets out = x + t·d.
@@ -921,21 +1006,6 @@ func trigonometric10LBFGSAnalyticModelMinimizer(a, b *trigonometric10LBFGSAnalyt
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, trigonometric10LBFGSAnalyticFinite(t)
-}
-
-// trigonometric10LBFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func trigonometric10LBFGSAnalyticClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // trigonometric10LBFGSAnalyticExpandTrial picks a larger trial after current met sufficient decrease

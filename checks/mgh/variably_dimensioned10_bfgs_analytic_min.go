@@ -88,6 +88,9 @@ func VariablyDimensioned10BFGSAnalyticDefaultLimits() VariablyDimensioned10BFGSA
 	}
 }
 
+// variablyDimensioned10BFGSAnalyticBox is empty: mgh.toml sets no bounds on VariablyDimensioned10BFGSAnalytic.
+type variablyDimensioned10BFGSAnalyticBox struct{}
+
 // VariablyDimensioned10BFGSAnalytic minimizes VariablyDimensioned10 from x0, as mgh.toml specifies.
 //
 // Direction bfgs: BFGS quasi-Newton with a dense inverse-Hessian approximation (dim² numbers).
@@ -105,7 +108,7 @@ func VariablyDimensioned10BFGSAnalytic(x0 [10]float64) VariablyDimensioned10BFGS
 
 // VariablyDimensioned10BFGSAnalyticWithLimits is VariablyDimensioned10BFGSAnalytic with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func VariablyDimensioned10BFGSAnalyticWithLimits(x0 [10]float64, limits VariablyDimensioned10BFGSAnalyticLimits) VariablyDimensioned10BFGSAnalyticResult {
-	out := variablyDimensioned10BFGSAnalyticMinimize(x0, limits)
+	out := variablyDimensioned10BFGSAnalyticMinimize(x0, limits, variablyDimensioned10BFGSAnalyticBox{})
 	return VariablyDimensioned10BFGSAnalyticResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func variablyDimensioned10BFGSAnalyticMinimize(x0 [10]float64, lim VariablyDimensioned10BFGSAnalyticLimits) variablyDimensioned10BFGSAnalyticOutcome {
-	out := variablyDimensioned10BFGSAnalyticOutcome{x: x0, status: VariablyDimensioned10BFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
+func variablyDimensioned10BFGSAnalyticMinimize(x0 [10]float64, lim VariablyDimensioned10BFGSAnalyticLimits, bounds variablyDimensioned10BFGSAnalyticBox) variablyDimensioned10BFGSAnalyticOutcome {
+	x := x0
+	variablyDimensioned10BFGSAnalyticEnterBox(&x, &bounds)
+	out := variablyDimensioned10BFGSAnalyticOutcome{x: x, status: VariablyDimensioned10BFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := VariablyDimensioned10(&x)
 	out.f, out.evaluations = fx, 1
 	if !variablyDimensioned10BFGSAnalyticFinite(fx) || !variablyDimensioned10BFGSAnalyticFiniteVec(&x) {
 		out.status = VariablyDimensioned10BFGSAnalyticNonFiniteStart
 		return out
 	}
-	var diffs variablyDimensioned10BFGSAnalyticDifferences
+	diffs := variablyDimensioned10BFGSAnalyticDifferences{bounds: bounds}
 	calls, ok := variablyDimensioned10BFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+variablyDimensioned10BFGSAnalyticDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [10]float64
-	variablyDimensioned10BFGSAnalyticDerivative(&x, fx, &g, &diffs)
-	out.evaluations += variablyDimensioned10BFGSAnalyticDerivativeCost
+	out.evaluations += variablyDimensioned10BFGSAnalyticDerivative(&x, fx, &g, &diffs)
 
 	if !variablyDimensioned10BFGSAnalyticFiniteVec(&g) {
 		out.status = VariablyDimensioned10BFGSAnalyticNonFiniteGradient
@@ -211,7 +214,7 @@ func variablyDimensioned10BFGSAnalyticMinimize(x0 [10]float64, lim VariablyDimen
 		case !confirmed:
 			variablyDimensioned10BFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := variablyDimensioned10BFGSAnalyticGradientMeasure(&g, &e, &x, fx)
+		measure, floor := variablyDimensioned10BFGSAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, variablyDimensioned10BFGSAnalyticLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func variablyDimensioned10BFGSAnalyticMinimize(x0 [10]float64, lim VariablyDimen
 			if rises >= 8 {
 				return best.ending(VariablyDimensioned10BFGSAnalyticDiverged, out.iterations, out.evaluations)
 			}
+			variablyDimensioned10BFGSAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(VariablyDimensioned10BFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		variablyDimensioned10BFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := variablyDimensioned10BFGSAnalyticDot(&g, &d)
 		if !(now < 0) || !variablyDimensioned10BFGSAnalyticFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			variablyDimensioned10BFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = variablyDimensioned10BFGSAnalyticDot(&g, &d)
 		}
 		first := float64(variablyDimensioned10BFGSAnalyticStepInitial)
@@ -267,7 +271,7 @@ func variablyDimensioned10BFGSAnalyticMinimize(x0 [10]float64, lim VariablyDimen
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := variablyDimensioned10BFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := variablyDimensioned10BFGSAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := variablyDimensioned10BFGSAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case variablyDimensioned10BFGSAnalyticSearchOutOfBudget:
@@ -303,8 +307,7 @@ func variablyDimensioned10BFGSAnalyticMinimize(x0 [10]float64, lim VariablyDimen
 				}
 				return best.ending(VariablyDimensioned10BFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			variablyDimensioned10BFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += variablyDimensioned10BFGSAnalyticDerivativeCost
+			out.evaluations += variablyDimensioned10BFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		variablyDimensioned10BFGSAnalyticDifference(&s, &xt, &x)
@@ -345,6 +348,10 @@ func (o variablyDimensioned10BFGSAnalyticOutcome) ending(end VariablyDimensioned
 	return o
 }
 
+// variablyDimensioned10BFGSAnalyticEnterBox: without bounds every start is inside.
+func variablyDimensioned10BFGSAnalyticEnterBox(x *[10]float64, b *variablyDimensioned10BFGSAnalyticBox) {
+}
+
 // variablyDimensioned10BFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +374,17 @@ func variablyDimensioned10BFGSAnalyticFiniteVec(x *[10]float64) bool {
 	return true
 }
 
-// variablyDimensioned10BFGSAnalyticDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// variablyDimensioned10BFGSAnalyticDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type variablyDimensioned10BFGSAnalyticDifferences struct {
 	ratio     [10]float64
 	curvature [10]float64
 	second    [10]float64 // |f″| along e_i, for the rounding floor of a stall (see variablyDimensioned10BFGSAnalyticRoundingFloor)
+	bounds    variablyDimensioned10BFGSAnalyticBox
 }
 
 // variablyDimensioned10BFGSAnalyticCalibrate: an analytic gradient needs no intervals.
@@ -384,8 +393,9 @@ func variablyDimensioned10BFGSAnalyticCalibrate(x *[10]float64, fx float64, diff
 }
 
 // variablyDimensioned10BFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func variablyDimensioned10BFGSAnalyticDerivative(x *[10]float64, fx float64, g *[10]float64, diffs *variablyDimensioned10BFGSAnalyticDifferences) {
+func variablyDimensioned10BFGSAnalyticDerivative(x *[10]float64, fx float64, g *[10]float64, diffs *variablyDimensioned10BFGSAnalyticDifferences) int {
 	VariablyDimensioned10Grad(x, g)
+	return 0
 }
 
 // variablyDimensioned10BFGSAnalyticDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
@@ -525,13 +535,13 @@ func variablyDimensioned10BFGSAnalyticConfirmGradient(x *[10]float64, fx float64
 		wide.ratio[i] *= 2
 	}
 	var doubled [10]float64
-	variablyDimensioned10BFGSAnalyticDerivative(x, fx, g, diffs)
-	variablyDimensioned10BFGSAnalyticDerivative(x, fx, &doubled, &wide)
+	calls += variablyDimensioned10BFGSAnalyticDerivative(x, fx, g, diffs)
+	calls += variablyDimensioned10BFGSAnalyticDerivative(x, fx, &doubled, &wide)
 	variablyDimensioned10BFGSAnalyticGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * variablyDimensioned10BFGSAnalyticAbs(g[i]-doubled[i])
 	}
-	return calls + 2*variablyDimensioned10BFGSAnalyticDerivativeCost, true
+	return calls, true
 }
 
 // variablyDimensioned10BFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
@@ -573,18 +583,60 @@ func variablyDimensioned10BFGSAnalyticDiagonalCurvature(x, g *[10]float64, diffs
 	var moved [10]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := variablyDimensioned10BFGSAnalyticProbeStep(xi, variablyDimensioned10BFGSAnalyticSquareRoot(variablyDimensioned10BFGSAnalyticUnitRoundoff)*variablyDimensioned10BFGSAnalyticLarger(1, variablyDimensioned10BFGSAnalyticAbs(xi)))
-		probe[i] = up
-		VariablyDimensioned10Grad(&probe, &moved)
-		h[i] = variablyDimensioned10BFGSAnalyticAbs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := variablyDimensioned10BFGSAnalyticCoordinateRange(i, diffs)
+		up, delta := variablyDimensioned10BFGSAnalyticProbeStep(xi, variablyDimensioned10BFGSAnalyticOneSide(xi, variablyDimensioned10BFGSAnalyticSquareRoot(variablyDimensioned10BFGSAnalyticUnitRoundoff)*variablyDimensioned10BFGSAnalyticLarger(1, variablyDimensioned10BFGSAnalyticAbs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			VariablyDimensioned10Grad(&probe, &moved)
+			h[i] = variablyDimensioned10BFGSAnalyticAbs(moved[i]-g[i]) / variablyDimensioned10BFGSAnalyticAbs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// variablyDimensioned10BFGSAnalyticProbeStep returns x_i moved by h, and the step actually representable.
-func variablyDimensioned10BFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// variablyDimensioned10BFGSAnalyticCoordinateRange: without bounds any probe is allowed.
+func variablyDimensioned10BFGSAnalyticCoordinateRange(i int, diffs *variablyDimensioned10BFGSAnalyticDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// variablyDimensioned10BFGSAnalyticProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func variablyDimensioned10BFGSAnalyticProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := variablyDimensioned10BFGSAnalyticClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// variablyDimensioned10BFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func variablyDimensioned10BFGSAnalyticClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// variablyDimensioned10BFGSAnalyticOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func variablyDimensioned10BFGSAnalyticOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // variablyDimensioned10BFGSAnalyticSquareRoot returns √v.
@@ -600,6 +652,11 @@ func variablyDimensioned10BFGSAnalyticLarger(a, b float64) float64 {
 		return a
 	}
 	return b
+}
+
+// variablyDimensioned10BFGSAnalyticStationarity measures the gradient itself.
+func variablyDimensioned10BFGSAnalyticStationarity(g, e, x *[10]float64, fx float64, b *variablyDimensioned10BFGSAnalyticBox) (measure, floor float64) {
+	return variablyDimensioned10BFGSAnalyticGradientMeasure(g, e, x, fx)
 }
 
 // variablyDimensioned10BFGSAnalyticGradientMeasure is the scale-free measure
@@ -635,6 +692,15 @@ func variablyDimensioned10BFGSAnalyticStepWithin(s, x *[10]float64, tol float64)
 	return true
 }
 
+// variablyDimensioned10BFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
+func variablyDimensioned10BFGSAnalyticCurvaturePair(s, y, x *[10]float64, b *variablyDimensioned10BFGSAnalyticBox) {
+}
+
+// variablyDimensioned10BFGSAnalyticSearchDirection is the direction's own.
+func variablyDimensioned10BFGSAnalyticSearchDirection(dir *variablyDimensioned10BFGSAnalyticDirection, x, g, d *[10]float64, b *variablyDimensioned10BFGSAnalyticBox) {
+	dir.compute(g, d)
+}
+
 // variablyDimensioned10BFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func variablyDimensioned10BFGSAnalyticTinyStep(x, d *[10]float64, tol float64) float64 {
@@ -662,7 +728,10 @@ func variablyDimensioned10BFGSAnalyticTinyStep(x, d *[10]float64, tol float64) f
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (variablyDimensioned10BFGSAnalyticStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -671,13 +740,17 @@ func variablyDimensioned10BFGSAnalyticTinyStep(x, d *[10]float64, tol float64) f
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func variablyDimensioned10BFGSAnalyticLineSearch(x *[10]float64, fx float64, d *[10]float64, slope, first, tiny float64, budget int, xt, gt *[10]float64, diffs *variablyDimensioned10BFGSAnalyticDifferences) variablyDimensioned10BFGSAnalyticLineResult {
+func variablyDimensioned10BFGSAnalyticLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first, tiny float64, budget int, xt, gt *[10]float64, diffs *variablyDimensioned10BFGSAnalyticDifferences) variablyDimensioned10BFGSAnalyticLineResult {
 	low := variablyDimensioned10BFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high variablyDimensioned10BFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                                // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend variablyDimensioned10BFGSAnalyticRiseTrend // of the trials failing sufficient decrease
+	var trend variablyDimensioned10BFGSAnalyticRiseTrend                         // of the trials failing sufficient decrease
+	limit := variablyDimensioned10BFGSAnalyticStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < variablyDimensioned10BFGSAnalyticStepTrials; trial++ {
 		if bracketed && variablyDimensioned10BFGSAnalyticAbs(high.step-low.step) <= tiny {
@@ -687,12 +760,12 @@ func variablyDimensioned10BFGSAnalyticLineSearch(x *[10]float64, fx float64, d *
 			if low.step == 0 {
 				return variablyDimensioned10BFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: variablyDimensioned10BFGSAnalyticTinyOrExhausted(variablyDimensioned10BFGSAnalyticFinite(high.value))}
 			}
-			return variablyDimensioned10BFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return variablyDimensioned10BFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return variablyDimensioned10BFGSAnalyticLineResult{calls: calls, end: variablyDimensioned10BFGSAnalyticSearchOutOfBudget}
 		}
-		variablyDimensioned10BFGSAnalyticMoveTo(xt, x, t, d)
+		variablyDimensioned10BFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := variablyDimensioned10BFGSAnalyticLinePoint{step: t, value: VariablyDimensioned10(xt)}
 		calls++
 		previous := low
@@ -703,8 +776,7 @@ func variablyDimensioned10BFGSAnalyticLineSearch(x *[10]float64, fx float64, d *
 			if calls+variablyDimensioned10BFGSAnalyticDerivativeCost > budget {
 				return variablyDimensioned10BFGSAnalyticLineResult{calls: calls, end: variablyDimensioned10BFGSAnalyticSearchOutOfBudget}
 			}
-			variablyDimensioned10BFGSAnalyticDerivative(xt, current.value, gt, diffs)
-			calls += variablyDimensioned10BFGSAnalyticDerivativeCost
+			calls += variablyDimensioned10BFGSAnalyticDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = variablyDimensioned10BFGSAnalyticDot(gt, d), true
 			switch {
 			case !variablyDimensioned10BFGSAnalyticFinite(current.slope):
@@ -715,18 +787,22 @@ func variablyDimensioned10BFGSAnalyticLineSearch(x *[10]float64, fx float64, d *
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return variablyDimensioned10BFGSAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: variablyDimensioned10BFGSAnalyticSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = variablyDimensioned10BFGSAnalyticZoomTrial(&low, &high)
-		} else {
-			t = variablyDimensioned10BFGSAnalyticExpandTrial(&previous, &current)
+		} else if t = variablyDimensioned10BFGSAnalyticExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return variablyDimensioned10BFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return variablyDimensioned10BFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return variablyDimensioned10BFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: variablyDimensioned10BFGSAnalyticSearchExhausted}
 }
@@ -813,6 +889,11 @@ func variablyDimensioned10BFGSAnalyticFaithfulStep(x, xt, d *[10]float64, t floa
 	return true
 }
 
+// variablyDimensioned10BFGSAnalyticStepCap: without bounds a step may be as long as the search wants.
+func variablyDimensioned10BFGSAnalyticStepCap(x, d *[10]float64, tiny float64, b *variablyDimensioned10BFGSAnalyticBox) float64 {
+	return math.Inf(1)
+}
+
 // variablyDimensioned10BFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -837,10 +918,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func variablyDimensioned10BFGSAnalyticAcceptLow(x, d *[10]float64, low *variablyDimensioned10BFGSAnalyticLinePoint, lowGradient *[10]float64, calls int, xt, gt *[10]float64) variablyDimensioned10BFGSAnalyticLineResult {
-	variablyDimensioned10BFGSAnalyticMoveTo(xt, x, low.step, d)
+func variablyDimensioned10BFGSAnalyticAcceptLow(x, d *[10]float64, low *variablyDimensioned10BFGSAnalyticLinePoint, lowGradient *[10]float64, calls int, xt, gt *[10]float64, diffs *variablyDimensioned10BFGSAnalyticDifferences) variablyDimensioned10BFGSAnalyticLineResult {
+	variablyDimensioned10BFGSAnalyticTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return variablyDimensioned10BFGSAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: variablyDimensioned10BFGSAnalyticSearchAccepted}
+}
+
+// variablyDimensioned10BFGSAnalyticTrialPoint is x + t·d.
+func variablyDimensioned10BFGSAnalyticTrialPoint(out, x *[10]float64, t float64, d *[10]float64, b *variablyDimensioned10BFGSAnalyticBox) {
+	variablyDimensioned10BFGSAnalyticMoveTo(out, x, t, d)
 }
 
 // variablyDimensioned10BFGSAnalyticMoveTo sets out = x + t·d.
@@ -895,21 +981,6 @@ func variablyDimensioned10BFGSAnalyticModelMinimizer(a, b *variablyDimensioned10
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, variablyDimensioned10BFGSAnalyticFinite(t)
-}
-
-// variablyDimensioned10BFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func variablyDimensioned10BFGSAnalyticClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // variablyDimensioned10BFGSAnalyticExpandTrial picks a larger trial after current met sufficient decrease

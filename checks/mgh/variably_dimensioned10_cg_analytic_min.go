@@ -88,6 +88,9 @@ func VariablyDimensioned10CGAnalyticDefaultLimits() VariablyDimensioned10CGAnaly
 	}
 }
 
+// variablyDimensioned10CGAnalyticBox is empty: mgh.toml sets no bounds on VariablyDimensioned10CGAnalytic.
+type variablyDimensioned10CGAnalyticBox struct{}
+
 // VariablyDimensioned10CGAnalytic minimizes VariablyDimensioned10 from x0, as mgh.toml specifies.
 //
 // Direction cg: nonlinear conjugate gradients, Polak–Ribière clipped at zero (PR+), restarted every dim steps.
@@ -105,7 +108,7 @@ func VariablyDimensioned10CGAnalytic(x0 [10]float64) VariablyDimensioned10CGAnal
 
 // VariablyDimensioned10CGAnalyticWithLimits is VariablyDimensioned10CGAnalytic with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func VariablyDimensioned10CGAnalyticWithLimits(x0 [10]float64, limits VariablyDimensioned10CGAnalyticLimits) VariablyDimensioned10CGAnalyticResult {
-	out := variablyDimensioned10CGAnalyticMinimize(x0, limits)
+	out := variablyDimensioned10CGAnalyticMinimize(x0, limits, variablyDimensioned10CGAnalyticBox{})
 	return VariablyDimensioned10CGAnalyticResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func variablyDimensioned10CGAnalyticMinimize(x0 [10]float64, lim VariablyDimensioned10CGAnalyticLimits) variablyDimensioned10CGAnalyticOutcome {
-	out := variablyDimensioned10CGAnalyticOutcome{x: x0, status: VariablyDimensioned10CGAnalyticOutOfEvaluations, gradient: math.NaN()}
+func variablyDimensioned10CGAnalyticMinimize(x0 [10]float64, lim VariablyDimensioned10CGAnalyticLimits, bounds variablyDimensioned10CGAnalyticBox) variablyDimensioned10CGAnalyticOutcome {
+	x := x0
+	variablyDimensioned10CGAnalyticEnterBox(&x, &bounds)
+	out := variablyDimensioned10CGAnalyticOutcome{x: x, status: VariablyDimensioned10CGAnalyticOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := VariablyDimensioned10(&x)
 	out.f, out.evaluations = fx, 1
 	if !variablyDimensioned10CGAnalyticFinite(fx) || !variablyDimensioned10CGAnalyticFiniteVec(&x) {
 		out.status = VariablyDimensioned10CGAnalyticNonFiniteStart
 		return out
 	}
-	var diffs variablyDimensioned10CGAnalyticDifferences
+	diffs := variablyDimensioned10CGAnalyticDifferences{bounds: bounds}
 	calls, ok := variablyDimensioned10CGAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+variablyDimensioned10CGAnalyticDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [10]float64
-	variablyDimensioned10CGAnalyticDerivative(&x, fx, &g, &diffs)
-	out.evaluations += variablyDimensioned10CGAnalyticDerivativeCost
+	out.evaluations += variablyDimensioned10CGAnalyticDerivative(&x, fx, &g, &diffs)
 
 	if !variablyDimensioned10CGAnalyticFiniteVec(&g) {
 		out.status = VariablyDimensioned10CGAnalyticNonFiniteGradient
@@ -211,7 +214,7 @@ func variablyDimensioned10CGAnalyticMinimize(x0 [10]float64, lim VariablyDimensi
 		case !confirmed:
 			variablyDimensioned10CGAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := variablyDimensioned10CGAnalyticGradientMeasure(&g, &e, &x, fx)
+		measure, floor := variablyDimensioned10CGAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, variablyDimensioned10CGAnalyticLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func variablyDimensioned10CGAnalyticMinimize(x0 [10]float64, lim VariablyDimensi
 			if rises >= 8 {
 				return best.ending(VariablyDimensioned10CGAnalyticDiverged, out.iterations, out.evaluations)
 			}
+			variablyDimensioned10CGAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(VariablyDimensioned10CGAnalyticOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		variablyDimensioned10CGAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := variablyDimensioned10CGAnalyticDot(&g, &d)
 		if !(now < 0) || !variablyDimensioned10CGAnalyticFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			variablyDimensioned10CGAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = variablyDimensioned10CGAnalyticDot(&g, &d)
 		}
 		first := float64(variablyDimensioned10CGAnalyticStepInitial)
@@ -267,7 +271,7 @@ func variablyDimensioned10CGAnalyticMinimize(x0 [10]float64, lim VariablyDimensi
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := variablyDimensioned10CGAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := variablyDimensioned10CGAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := variablyDimensioned10CGAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case variablyDimensioned10CGAnalyticSearchOutOfBudget:
@@ -303,8 +307,7 @@ func variablyDimensioned10CGAnalyticMinimize(x0 [10]float64, lim VariablyDimensi
 				}
 				return best.ending(VariablyDimensioned10CGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			variablyDimensioned10CGAnalyticDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += variablyDimensioned10CGAnalyticDerivativeCost
+			out.evaluations += variablyDimensioned10CGAnalyticDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		variablyDimensioned10CGAnalyticDifference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o variablyDimensioned10CGAnalyticOutcome) ending(end VariablyDimensioned10
 	return o
 }
 
+// variablyDimensioned10CGAnalyticEnterBox: without bounds every start is inside.
+func variablyDimensioned10CGAnalyticEnterBox(x *[10]float64, b *variablyDimensioned10CGAnalyticBox) {}
+
 // variablyDimensioned10CGAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func variablyDimensioned10CGAnalyticFiniteVec(x *[10]float64) bool {
 	return true
 }
 
-// variablyDimensioned10CGAnalyticDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// variablyDimensioned10CGAnalyticDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type variablyDimensioned10CGAnalyticDifferences struct {
 	ratio     [10]float64
 	curvature [10]float64
 	second    [10]float64 // |f″| along e_i, for the rounding floor of a stall (see variablyDimensioned10CGAnalyticRoundingFloor)
+	bounds    variablyDimensioned10CGAnalyticBox
 }
 
 // variablyDimensioned10CGAnalyticCalibrate: an analytic gradient needs no intervals.
@@ -384,8 +392,9 @@ func variablyDimensioned10CGAnalyticCalibrate(x *[10]float64, fx float64, diffs 
 }
 
 // variablyDimensioned10CGAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func variablyDimensioned10CGAnalyticDerivative(x *[10]float64, fx float64, g *[10]float64, diffs *variablyDimensioned10CGAnalyticDifferences) {
+func variablyDimensioned10CGAnalyticDerivative(x *[10]float64, fx float64, g *[10]float64, diffs *variablyDimensioned10CGAnalyticDifferences) int {
 	VariablyDimensioned10Grad(x, g)
+	return 0
 }
 
 // variablyDimensioned10CGAnalyticDirection is nonlinear conjugate gradients with the Polak–Ribière
@@ -517,13 +526,13 @@ func variablyDimensioned10CGAnalyticConfirmGradient(x *[10]float64, fx float64, 
 		wide.ratio[i] *= 2
 	}
 	var doubled [10]float64
-	variablyDimensioned10CGAnalyticDerivative(x, fx, g, diffs)
-	variablyDimensioned10CGAnalyticDerivative(x, fx, &doubled, &wide)
+	calls += variablyDimensioned10CGAnalyticDerivative(x, fx, g, diffs)
+	calls += variablyDimensioned10CGAnalyticDerivative(x, fx, &doubled, &wide)
 	variablyDimensioned10CGAnalyticGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * variablyDimensioned10CGAnalyticAbs(g[i]-doubled[i])
 	}
-	return calls + 2*variablyDimensioned10CGAnalyticDerivativeCost, true
+	return calls, true
 }
 
 // variablyDimensioned10CGAnalyticGradientError: the analytic gradient is taken as exact; its error is
@@ -565,23 +574,70 @@ func variablyDimensioned10CGAnalyticDiagonalCurvature(x, g *[10]float64, diffs *
 	var moved [10]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := variablyDimensioned10CGAnalyticProbeStep(xi, variablyDimensioned10CGAnalyticSquareRoot(variablyDimensioned10CGAnalyticUnitRoundoff)*variablyDimensioned10CGAnalyticLarger(1, variablyDimensioned10CGAnalyticAbs(xi)))
-		probe[i] = up
-		VariablyDimensioned10Grad(&probe, &moved)
-		h[i] = variablyDimensioned10CGAnalyticAbs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := variablyDimensioned10CGAnalyticCoordinateRange(i, diffs)
+		up, delta := variablyDimensioned10CGAnalyticProbeStep(xi, variablyDimensioned10CGAnalyticOneSide(xi, variablyDimensioned10CGAnalyticSquareRoot(variablyDimensioned10CGAnalyticUnitRoundoff)*variablyDimensioned10CGAnalyticLarger(1, variablyDimensioned10CGAnalyticAbs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			VariablyDimensioned10Grad(&probe, &moved)
+			h[i] = variablyDimensioned10CGAnalyticAbs(moved[i]-g[i]) / variablyDimensioned10CGAnalyticAbs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// variablyDimensioned10CGAnalyticProbeStep returns x_i moved by h, and the step actually representable.
-func variablyDimensioned10CGAnalyticProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// variablyDimensioned10CGAnalyticCoordinateRange: without bounds any probe is allowed.
+func variablyDimensioned10CGAnalyticCoordinateRange(i int, diffs *variablyDimensioned10CGAnalyticDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// variablyDimensioned10CGAnalyticProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func variablyDimensioned10CGAnalyticProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := variablyDimensioned10CGAnalyticClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// variablyDimensioned10CGAnalyticClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func variablyDimensioned10CGAnalyticClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// variablyDimensioned10CGAnalyticOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func variablyDimensioned10CGAnalyticOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // variablyDimensioned10CGAnalyticSquareRoot returns √v.
 func variablyDimensioned10CGAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// variablyDimensioned10CGAnalyticStationarity measures the gradient itself.
+func variablyDimensioned10CGAnalyticStationarity(g, e, x *[10]float64, fx float64, b *variablyDimensioned10CGAnalyticBox) (measure, floor float64) {
+	return variablyDimensioned10CGAnalyticGradientMeasure(g, e, x, fx)
 }
 
 // variablyDimensioned10CGAnalyticGradientMeasure is the scale-free measure
@@ -617,6 +673,15 @@ func variablyDimensioned10CGAnalyticStepWithin(s, x *[10]float64, tol float64) b
 	return true
 }
 
+// variablyDimensioned10CGAnalyticCurvaturePair: without bounds the pair is used as it is.
+func variablyDimensioned10CGAnalyticCurvaturePair(s, y, x *[10]float64, b *variablyDimensioned10CGAnalyticBox) {
+}
+
+// variablyDimensioned10CGAnalyticSearchDirection is the direction's own.
+func variablyDimensioned10CGAnalyticSearchDirection(dir *variablyDimensioned10CGAnalyticDirection, x, g, d *[10]float64, b *variablyDimensioned10CGAnalyticBox) {
+	dir.compute(g, d)
+}
+
 // variablyDimensioned10CGAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func variablyDimensioned10CGAnalyticTinyStep(x, d *[10]float64, tol float64) float64 {
@@ -644,7 +709,10 @@ func variablyDimensioned10CGAnalyticTinyStep(x, d *[10]float64, tol float64) flo
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (variablyDimensioned10CGAnalyticStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -653,13 +721,17 @@ func variablyDimensioned10CGAnalyticTinyStep(x, d *[10]float64, tol float64) flo
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func variablyDimensioned10CGAnalyticLineSearch(x *[10]float64, fx float64, d *[10]float64, slope, first, tiny float64, budget int, xt, gt *[10]float64, diffs *variablyDimensioned10CGAnalyticDifferences) variablyDimensioned10CGAnalyticLineResult {
+func variablyDimensioned10CGAnalyticLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first, tiny float64, budget int, xt, gt *[10]float64, diffs *variablyDimensioned10CGAnalyticDifferences) variablyDimensioned10CGAnalyticLineResult {
 	low := variablyDimensioned10CGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high variablyDimensioned10CGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                              // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend variablyDimensioned10CGAnalyticRiseTrend // of the trials failing sufficient decrease
+	var trend variablyDimensioned10CGAnalyticRiseTrend                         // of the trials failing sufficient decrease
+	limit := variablyDimensioned10CGAnalyticStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < variablyDimensioned10CGAnalyticStepTrials; trial++ {
 		if bracketed && variablyDimensioned10CGAnalyticAbs(high.step-low.step) <= tiny {
@@ -669,12 +741,12 @@ func variablyDimensioned10CGAnalyticLineSearch(x *[10]float64, fx float64, d *[1
 			if low.step == 0 {
 				return variablyDimensioned10CGAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: variablyDimensioned10CGAnalyticTinyOrExhausted(variablyDimensioned10CGAnalyticFinite(high.value))}
 			}
-			return variablyDimensioned10CGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return variablyDimensioned10CGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return variablyDimensioned10CGAnalyticLineResult{calls: calls, end: variablyDimensioned10CGAnalyticSearchOutOfBudget}
 		}
-		variablyDimensioned10CGAnalyticMoveTo(xt, x, t, d)
+		variablyDimensioned10CGAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := variablyDimensioned10CGAnalyticLinePoint{step: t, value: VariablyDimensioned10(xt)}
 		calls++
 		previous := low
@@ -685,8 +757,7 @@ func variablyDimensioned10CGAnalyticLineSearch(x *[10]float64, fx float64, d *[1
 			if calls+variablyDimensioned10CGAnalyticDerivativeCost > budget {
 				return variablyDimensioned10CGAnalyticLineResult{calls: calls, end: variablyDimensioned10CGAnalyticSearchOutOfBudget}
 			}
-			variablyDimensioned10CGAnalyticDerivative(xt, current.value, gt, diffs)
-			calls += variablyDimensioned10CGAnalyticDerivativeCost
+			calls += variablyDimensioned10CGAnalyticDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = variablyDimensioned10CGAnalyticDot(gt, d), true
 			switch {
 			case !variablyDimensioned10CGAnalyticFinite(current.slope):
@@ -697,18 +768,22 @@ func variablyDimensioned10CGAnalyticLineSearch(x *[10]float64, fx float64, d *[1
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return variablyDimensioned10CGAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: variablyDimensioned10CGAnalyticSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = variablyDimensioned10CGAnalyticZoomTrial(&low, &high)
-		} else {
-			t = variablyDimensioned10CGAnalyticExpandTrial(&previous, &current)
+		} else if t = variablyDimensioned10CGAnalyticExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return variablyDimensioned10CGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return variablyDimensioned10CGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return variablyDimensioned10CGAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: variablyDimensioned10CGAnalyticSearchExhausted}
 }
@@ -795,6 +870,11 @@ func variablyDimensioned10CGAnalyticFaithfulStep(x, xt, d *[10]float64, t float6
 	return true
 }
 
+// variablyDimensioned10CGAnalyticStepCap: without bounds a step may be as long as the search wants.
+func variablyDimensioned10CGAnalyticStepCap(x, d *[10]float64, tiny float64, b *variablyDimensioned10CGAnalyticBox) float64 {
+	return math.Inf(1)
+}
+
 // variablyDimensioned10CGAnalyticTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -819,10 +899,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func variablyDimensioned10CGAnalyticAcceptLow(x, d *[10]float64, low *variablyDimensioned10CGAnalyticLinePoint, lowGradient *[10]float64, calls int, xt, gt *[10]float64) variablyDimensioned10CGAnalyticLineResult {
-	variablyDimensioned10CGAnalyticMoveTo(xt, x, low.step, d)
+func variablyDimensioned10CGAnalyticAcceptLow(x, d *[10]float64, low *variablyDimensioned10CGAnalyticLinePoint, lowGradient *[10]float64, calls int, xt, gt *[10]float64, diffs *variablyDimensioned10CGAnalyticDifferences) variablyDimensioned10CGAnalyticLineResult {
+	variablyDimensioned10CGAnalyticTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return variablyDimensioned10CGAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: variablyDimensioned10CGAnalyticSearchAccepted}
+}
+
+// variablyDimensioned10CGAnalyticTrialPoint is x + t·d.
+func variablyDimensioned10CGAnalyticTrialPoint(out, x *[10]float64, t float64, d *[10]float64, b *variablyDimensioned10CGAnalyticBox) {
+	variablyDimensioned10CGAnalyticMoveTo(out, x, t, d)
 }
 
 // variablyDimensioned10CGAnalyticMoveTo sets out = x + t·d.
@@ -877,21 +962,6 @@ func variablyDimensioned10CGAnalyticModelMinimizer(a, b *variablyDimensioned10CG
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, variablyDimensioned10CGAnalyticFinite(t)
-}
-
-// variablyDimensioned10CGAnalyticClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func variablyDimensioned10CGAnalyticClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // variablyDimensioned10CGAnalyticExpandTrial picks a larger trial after current met sufficient decrease

@@ -88,6 +88,9 @@ func VariablyDimensioned10LBFGSAnalyticDefaultLimits() VariablyDimensioned10LBFG
 	}
 }
 
+// variablyDimensioned10LBFGSAnalyticBox is empty: mgh.toml sets no bounds on VariablyDimensioned10LBFGSAnalytic.
+type variablyDimensioned10LBFGSAnalyticBox struct{}
+
 // VariablyDimensioned10LBFGSAnalytic minimizes VariablyDimensioned10 from x0, as mgh.toml specifies.
 //
 // Direction lbfgs: limited-memory BFGS: the last `memory` pairs, two-loop recursion (2·memory·dim numbers).
@@ -105,7 +108,7 @@ func VariablyDimensioned10LBFGSAnalytic(x0 [10]float64) VariablyDimensioned10LBF
 
 // VariablyDimensioned10LBFGSAnalyticWithLimits is VariablyDimensioned10LBFGSAnalytic with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func VariablyDimensioned10LBFGSAnalyticWithLimits(x0 [10]float64, limits VariablyDimensioned10LBFGSAnalyticLimits) VariablyDimensioned10LBFGSAnalyticResult {
-	out := variablyDimensioned10LBFGSAnalyticMinimize(x0, limits)
+	out := variablyDimensioned10LBFGSAnalyticMinimize(x0, limits, variablyDimensioned10LBFGSAnalyticBox{})
 	return VariablyDimensioned10LBFGSAnalyticResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -159,27 +162,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func variablyDimensioned10LBFGSAnalyticMinimize(x0 [10]float64, lim VariablyDimensioned10LBFGSAnalyticLimits) variablyDimensioned10LBFGSAnalyticOutcome {
-	out := variablyDimensioned10LBFGSAnalyticOutcome{x: x0, status: VariablyDimensioned10LBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
+func variablyDimensioned10LBFGSAnalyticMinimize(x0 [10]float64, lim VariablyDimensioned10LBFGSAnalyticLimits, bounds variablyDimensioned10LBFGSAnalyticBox) variablyDimensioned10LBFGSAnalyticOutcome {
+	x := x0
+	variablyDimensioned10LBFGSAnalyticEnterBox(&x, &bounds)
+	out := variablyDimensioned10LBFGSAnalyticOutcome{x: x, status: VariablyDimensioned10LBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := VariablyDimensioned10(&x)
 	out.f, out.evaluations = fx, 1
 	if !variablyDimensioned10LBFGSAnalyticFinite(fx) || !variablyDimensioned10LBFGSAnalyticFiniteVec(&x) {
 		out.status = VariablyDimensioned10LBFGSAnalyticNonFiniteStart
 		return out
 	}
-	var diffs variablyDimensioned10LBFGSAnalyticDifferences
+	diffs := variablyDimensioned10LBFGSAnalyticDifferences{bounds: bounds}
 	calls, ok := variablyDimensioned10LBFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+variablyDimensioned10LBFGSAnalyticDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [10]float64
-	variablyDimensioned10LBFGSAnalyticDerivative(&x, fx, &g, &diffs)
-	out.evaluations += variablyDimensioned10LBFGSAnalyticDerivativeCost
+	out.evaluations += variablyDimensioned10LBFGSAnalyticDerivative(&x, fx, &g, &diffs)
 
 	if !variablyDimensioned10LBFGSAnalyticFiniteVec(&g) {
 		out.status = VariablyDimensioned10LBFGSAnalyticNonFiniteGradient
@@ -212,7 +215,7 @@ func variablyDimensioned10LBFGSAnalyticMinimize(x0 [10]float64, lim VariablyDime
 		case !confirmed:
 			variablyDimensioned10LBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := variablyDimensioned10LBFGSAnalyticGradientMeasure(&g, &e, &x, fx)
+		measure, floor := variablyDimensioned10LBFGSAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, variablyDimensioned10LBFGSAnalyticLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -251,16 +254,17 @@ func variablyDimensioned10LBFGSAnalyticMinimize(x0 [10]float64, lim VariablyDime
 			if rises >= 8 {
 				return best.ending(VariablyDimensioned10LBFGSAnalyticDiverged, out.iterations, out.evaluations)
 			}
+			variablyDimensioned10LBFGSAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(VariablyDimensioned10LBFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		variablyDimensioned10LBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := variablyDimensioned10LBFGSAnalyticDot(&g, &d)
 		if !(now < 0) || !variablyDimensioned10LBFGSAnalyticFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			variablyDimensioned10LBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = variablyDimensioned10LBFGSAnalyticDot(&g, &d)
 		}
 		first := float64(variablyDimensioned10LBFGSAnalyticStepInitial)
@@ -268,7 +272,7 @@ func variablyDimensioned10LBFGSAnalyticMinimize(x0 [10]float64, lim VariablyDime
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := variablyDimensioned10LBFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := variablyDimensioned10LBFGSAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := variablyDimensioned10LBFGSAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case variablyDimensioned10LBFGSAnalyticSearchOutOfBudget:
@@ -304,8 +308,7 @@ func variablyDimensioned10LBFGSAnalyticMinimize(x0 [10]float64, lim VariablyDime
 				}
 				return best.ending(VariablyDimensioned10LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			variablyDimensioned10LBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += variablyDimensioned10LBFGSAnalyticDerivativeCost
+			out.evaluations += variablyDimensioned10LBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		variablyDimensioned10LBFGSAnalyticDifference(&s, &xt, &x)
@@ -346,6 +349,10 @@ func (o variablyDimensioned10LBFGSAnalyticOutcome) ending(end VariablyDimensione
 	return o
 }
 
+// variablyDimensioned10LBFGSAnalyticEnterBox: without bounds every start is inside.
+func variablyDimensioned10LBFGSAnalyticEnterBox(x *[10]float64, b *variablyDimensioned10LBFGSAnalyticBox) {
+}
+
 // variablyDimensioned10LBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -368,15 +375,17 @@ func variablyDimensioned10LBFGSAnalyticFiniteVec(x *[10]float64) bool {
 	return true
 }
 
-// variablyDimensioned10LBFGSAnalyticDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// variablyDimensioned10LBFGSAnalyticDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type variablyDimensioned10LBFGSAnalyticDifferences struct {
 	ratio     [10]float64
 	curvature [10]float64
 	second    [10]float64 // |f″| along e_i, for the rounding floor of a stall (see variablyDimensioned10LBFGSAnalyticRoundingFloor)
+	bounds    variablyDimensioned10LBFGSAnalyticBox
 }
 
 // variablyDimensioned10LBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
@@ -385,8 +394,9 @@ func variablyDimensioned10LBFGSAnalyticCalibrate(x *[10]float64, fx float64, dif
 }
 
 // variablyDimensioned10LBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func variablyDimensioned10LBFGSAnalyticDerivative(x *[10]float64, fx float64, g *[10]float64, diffs *variablyDimensioned10LBFGSAnalyticDifferences) {
+func variablyDimensioned10LBFGSAnalyticDerivative(x *[10]float64, fx float64, g *[10]float64, diffs *variablyDimensioned10LBFGSAnalyticDifferences) int {
 	VariablyDimensioned10Grad(x, g)
+	return 0
 }
 
 // variablyDimensioned10LBFGSAnalyticDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
@@ -551,13 +561,13 @@ func variablyDimensioned10LBFGSAnalyticConfirmGradient(x *[10]float64, fx float6
 		wide.ratio[i] *= 2
 	}
 	var doubled [10]float64
-	variablyDimensioned10LBFGSAnalyticDerivative(x, fx, g, diffs)
-	variablyDimensioned10LBFGSAnalyticDerivative(x, fx, &doubled, &wide)
+	calls += variablyDimensioned10LBFGSAnalyticDerivative(x, fx, g, diffs)
+	calls += variablyDimensioned10LBFGSAnalyticDerivative(x, fx, &doubled, &wide)
 	variablyDimensioned10LBFGSAnalyticGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * variablyDimensioned10LBFGSAnalyticAbs(g[i]-doubled[i])
 	}
-	return calls + 2*variablyDimensioned10LBFGSAnalyticDerivativeCost, true
+	return calls, true
 }
 
 // variablyDimensioned10LBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
@@ -599,18 +609,60 @@ func variablyDimensioned10LBFGSAnalyticDiagonalCurvature(x, g *[10]float64, diff
 	var moved [10]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := variablyDimensioned10LBFGSAnalyticProbeStep(xi, variablyDimensioned10LBFGSAnalyticSquareRoot(variablyDimensioned10LBFGSAnalyticUnitRoundoff)*variablyDimensioned10LBFGSAnalyticLarger(1, variablyDimensioned10LBFGSAnalyticAbs(xi)))
-		probe[i] = up
-		VariablyDimensioned10Grad(&probe, &moved)
-		h[i] = variablyDimensioned10LBFGSAnalyticAbs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := variablyDimensioned10LBFGSAnalyticCoordinateRange(i, diffs)
+		up, delta := variablyDimensioned10LBFGSAnalyticProbeStep(xi, variablyDimensioned10LBFGSAnalyticOneSide(xi, variablyDimensioned10LBFGSAnalyticSquareRoot(variablyDimensioned10LBFGSAnalyticUnitRoundoff)*variablyDimensioned10LBFGSAnalyticLarger(1, variablyDimensioned10LBFGSAnalyticAbs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			VariablyDimensioned10Grad(&probe, &moved)
+			h[i] = variablyDimensioned10LBFGSAnalyticAbs(moved[i]-g[i]) / variablyDimensioned10LBFGSAnalyticAbs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// variablyDimensioned10LBFGSAnalyticProbeStep returns x_i moved by h, and the step actually representable.
-func variablyDimensioned10LBFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// variablyDimensioned10LBFGSAnalyticCoordinateRange: without bounds any probe is allowed.
+func variablyDimensioned10LBFGSAnalyticCoordinateRange(i int, diffs *variablyDimensioned10LBFGSAnalyticDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// variablyDimensioned10LBFGSAnalyticProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func variablyDimensioned10LBFGSAnalyticProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := variablyDimensioned10LBFGSAnalyticClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// variablyDimensioned10LBFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func variablyDimensioned10LBFGSAnalyticClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// variablyDimensioned10LBFGSAnalyticOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func variablyDimensioned10LBFGSAnalyticOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // variablyDimensioned10LBFGSAnalyticSquareRoot returns √v.
@@ -626,6 +678,11 @@ func variablyDimensioned10LBFGSAnalyticLarger(a, b float64) float64 {
 		return a
 	}
 	return b
+}
+
+// variablyDimensioned10LBFGSAnalyticStationarity measures the gradient itself.
+func variablyDimensioned10LBFGSAnalyticStationarity(g, e, x *[10]float64, fx float64, b *variablyDimensioned10LBFGSAnalyticBox) (measure, floor float64) {
+	return variablyDimensioned10LBFGSAnalyticGradientMeasure(g, e, x, fx)
 }
 
 // variablyDimensioned10LBFGSAnalyticGradientMeasure is the scale-free measure
@@ -661,6 +718,15 @@ func variablyDimensioned10LBFGSAnalyticStepWithin(s, x *[10]float64, tol float64
 	return true
 }
 
+// variablyDimensioned10LBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
+func variablyDimensioned10LBFGSAnalyticCurvaturePair(s, y, x *[10]float64, b *variablyDimensioned10LBFGSAnalyticBox) {
+}
+
+// variablyDimensioned10LBFGSAnalyticSearchDirection is the direction's own.
+func variablyDimensioned10LBFGSAnalyticSearchDirection(dir *variablyDimensioned10LBFGSAnalyticDirection, x, g, d *[10]float64, b *variablyDimensioned10LBFGSAnalyticBox) {
+	dir.compute(g, d)
+}
+
 // variablyDimensioned10LBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func variablyDimensioned10LBFGSAnalyticTinyStep(x, d *[10]float64, tol float64) float64 {
@@ -688,7 +754,10 @@ func variablyDimensioned10LBFGSAnalyticTinyStep(x, d *[10]float64, tol float64) 
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (variablyDimensioned10LBFGSAnalyticStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -697,13 +766,17 @@ func variablyDimensioned10LBFGSAnalyticTinyStep(x, d *[10]float64, tol float64) 
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func variablyDimensioned10LBFGSAnalyticLineSearch(x *[10]float64, fx float64, d *[10]float64, slope, first, tiny float64, budget int, xt, gt *[10]float64, diffs *variablyDimensioned10LBFGSAnalyticDifferences) variablyDimensioned10LBFGSAnalyticLineResult {
+func variablyDimensioned10LBFGSAnalyticLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first, tiny float64, budget int, xt, gt *[10]float64, diffs *variablyDimensioned10LBFGSAnalyticDifferences) variablyDimensioned10LBFGSAnalyticLineResult {
 	low := variablyDimensioned10LBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high variablyDimensioned10LBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                                 // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend variablyDimensioned10LBFGSAnalyticRiseTrend // of the trials failing sufficient decrease
+	var trend variablyDimensioned10LBFGSAnalyticRiseTrend                         // of the trials failing sufficient decrease
+	limit := variablyDimensioned10LBFGSAnalyticStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < variablyDimensioned10LBFGSAnalyticStepTrials; trial++ {
 		if bracketed && variablyDimensioned10LBFGSAnalyticAbs(high.step-low.step) <= tiny {
@@ -713,12 +786,12 @@ func variablyDimensioned10LBFGSAnalyticLineSearch(x *[10]float64, fx float64, d 
 			if low.step == 0 {
 				return variablyDimensioned10LBFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: variablyDimensioned10LBFGSAnalyticTinyOrExhausted(variablyDimensioned10LBFGSAnalyticFinite(high.value))}
 			}
-			return variablyDimensioned10LBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return variablyDimensioned10LBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return variablyDimensioned10LBFGSAnalyticLineResult{calls: calls, end: variablyDimensioned10LBFGSAnalyticSearchOutOfBudget}
 		}
-		variablyDimensioned10LBFGSAnalyticMoveTo(xt, x, t, d)
+		variablyDimensioned10LBFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := variablyDimensioned10LBFGSAnalyticLinePoint{step: t, value: VariablyDimensioned10(xt)}
 		calls++
 		previous := low
@@ -729,8 +802,7 @@ func variablyDimensioned10LBFGSAnalyticLineSearch(x *[10]float64, fx float64, d 
 			if calls+variablyDimensioned10LBFGSAnalyticDerivativeCost > budget {
 				return variablyDimensioned10LBFGSAnalyticLineResult{calls: calls, end: variablyDimensioned10LBFGSAnalyticSearchOutOfBudget}
 			}
-			variablyDimensioned10LBFGSAnalyticDerivative(xt, current.value, gt, diffs)
-			calls += variablyDimensioned10LBFGSAnalyticDerivativeCost
+			calls += variablyDimensioned10LBFGSAnalyticDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = variablyDimensioned10LBFGSAnalyticDot(gt, d), true
 			switch {
 			case !variablyDimensioned10LBFGSAnalyticFinite(current.slope):
@@ -741,18 +813,22 @@ func variablyDimensioned10LBFGSAnalyticLineSearch(x *[10]float64, fx float64, d 
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return variablyDimensioned10LBFGSAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: variablyDimensioned10LBFGSAnalyticSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = variablyDimensioned10LBFGSAnalyticZoomTrial(&low, &high)
-		} else {
-			t = variablyDimensioned10LBFGSAnalyticExpandTrial(&previous, &current)
+		} else if t = variablyDimensioned10LBFGSAnalyticExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return variablyDimensioned10LBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return variablyDimensioned10LBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return variablyDimensioned10LBFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: variablyDimensioned10LBFGSAnalyticSearchExhausted}
 }
@@ -839,6 +915,11 @@ func variablyDimensioned10LBFGSAnalyticFaithfulStep(x, xt, d *[10]float64, t flo
 	return true
 }
 
+// variablyDimensioned10LBFGSAnalyticStepCap: without bounds a step may be as long as the search wants.
+func variablyDimensioned10LBFGSAnalyticStepCap(x, d *[10]float64, tiny float64, b *variablyDimensioned10LBFGSAnalyticBox) float64 {
+	return math.Inf(1)
+}
+
 // variablyDimensioned10LBFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -863,10 +944,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func variablyDimensioned10LBFGSAnalyticAcceptLow(x, d *[10]float64, low *variablyDimensioned10LBFGSAnalyticLinePoint, lowGradient *[10]float64, calls int, xt, gt *[10]float64) variablyDimensioned10LBFGSAnalyticLineResult {
-	variablyDimensioned10LBFGSAnalyticMoveTo(xt, x, low.step, d)
+func variablyDimensioned10LBFGSAnalyticAcceptLow(x, d *[10]float64, low *variablyDimensioned10LBFGSAnalyticLinePoint, lowGradient *[10]float64, calls int, xt, gt *[10]float64, diffs *variablyDimensioned10LBFGSAnalyticDifferences) variablyDimensioned10LBFGSAnalyticLineResult {
+	variablyDimensioned10LBFGSAnalyticTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return variablyDimensioned10LBFGSAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: variablyDimensioned10LBFGSAnalyticSearchAccepted}
+}
+
+// variablyDimensioned10LBFGSAnalyticTrialPoint is x + t·d.
+func variablyDimensioned10LBFGSAnalyticTrialPoint(out, x *[10]float64, t float64, d *[10]float64, b *variablyDimensioned10LBFGSAnalyticBox) {
+	variablyDimensioned10LBFGSAnalyticMoveTo(out, x, t, d)
 }
 
 // variablyDimensioned10LBFGSAnalyticMoveTo sets out = x + t·d.
@@ -921,21 +1007,6 @@ func variablyDimensioned10LBFGSAnalyticModelMinimizer(a, b *variablyDimensioned1
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, variablyDimensioned10LBFGSAnalyticFinite(t)
-}
-
-// variablyDimensioned10LBFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func variablyDimensioned10LBFGSAnalyticClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // variablyDimensioned10LBFGSAnalyticExpandTrial picks a larger trial after current met sufficient decrease

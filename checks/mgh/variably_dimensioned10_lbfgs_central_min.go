@@ -88,6 +88,9 @@ func VariablyDimensioned10LBFGSCentralDefaultLimits() VariablyDimensioned10LBFGS
 	}
 }
 
+// variablyDimensioned10LBFGSCentralBox is empty: mgh.toml sets no bounds on VariablyDimensioned10LBFGSCentral.
+type variablyDimensioned10LBFGSCentralBox struct{}
+
 // VariablyDimensioned10LBFGSCentral minimizes VariablyDimensioned10 from x0, as mgh.toml specifies.
 //
 // Direction lbfgs: limited-memory BFGS: the last `memory` pairs, two-loop recursion (2·memory·dim numbers).
@@ -105,7 +108,7 @@ func VariablyDimensioned10LBFGSCentral(x0 [10]float64) VariablyDimensioned10LBFG
 
 // VariablyDimensioned10LBFGSCentralWithLimits is VariablyDimensioned10LBFGSCentral with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func VariablyDimensioned10LBFGSCentralWithLimits(x0 [10]float64, limits VariablyDimensioned10LBFGSCentralLimits) VariablyDimensioned10LBFGSCentralResult {
-	out := variablyDimensioned10LBFGSCentralMinimize(x0, limits)
+	out := variablyDimensioned10LBFGSCentralMinimize(x0, limits, variablyDimensioned10LBFGSCentralBox{})
 	return VariablyDimensioned10LBFGSCentralResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -159,27 +162,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func variablyDimensioned10LBFGSCentralMinimize(x0 [10]float64, lim VariablyDimensioned10LBFGSCentralLimits) variablyDimensioned10LBFGSCentralOutcome {
-	out := variablyDimensioned10LBFGSCentralOutcome{x: x0, status: VariablyDimensioned10LBFGSCentralOutOfEvaluations, gradient: math.NaN()}
+func variablyDimensioned10LBFGSCentralMinimize(x0 [10]float64, lim VariablyDimensioned10LBFGSCentralLimits, bounds variablyDimensioned10LBFGSCentralBox) variablyDimensioned10LBFGSCentralOutcome {
+	x := x0
+	variablyDimensioned10LBFGSCentralEnterBox(&x, &bounds)
+	out := variablyDimensioned10LBFGSCentralOutcome{x: x, status: VariablyDimensioned10LBFGSCentralOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := VariablyDimensioned10(&x)
 	out.f, out.evaluations = fx, 1
 	if !variablyDimensioned10LBFGSCentralFinite(fx) || !variablyDimensioned10LBFGSCentralFiniteVec(&x) {
 		out.status = VariablyDimensioned10LBFGSCentralNonFiniteStart
 		return out
 	}
-	var diffs variablyDimensioned10LBFGSCentralDifferences
+	diffs := variablyDimensioned10LBFGSCentralDifferences{bounds: bounds}
 	calls, ok := variablyDimensioned10LBFGSCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+variablyDimensioned10LBFGSCentralDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [10]float64
-	variablyDimensioned10LBFGSCentralDerivative(&x, fx, &g, &diffs)
-	out.evaluations += variablyDimensioned10LBFGSCentralDerivativeCost
+	out.evaluations += variablyDimensioned10LBFGSCentralDerivative(&x, fx, &g, &diffs)
 
 	if !variablyDimensioned10LBFGSCentralFiniteVec(&g) {
 		out.status = VariablyDimensioned10LBFGSCentralNonFiniteGradient
@@ -212,7 +215,7 @@ func variablyDimensioned10LBFGSCentralMinimize(x0 [10]float64, lim VariablyDimen
 		case !confirmed:
 			variablyDimensioned10LBFGSCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := variablyDimensioned10LBFGSCentralGradientMeasure(&g, &e, &x, fx)
+		measure, floor := variablyDimensioned10LBFGSCentralStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, variablyDimensioned10LBFGSCentralLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -251,16 +254,17 @@ func variablyDimensioned10LBFGSCentralMinimize(x0 [10]float64, lim VariablyDimen
 			if rises >= 8 {
 				return best.ending(VariablyDimensioned10LBFGSCentralDiverged, out.iterations, out.evaluations)
 			}
+			variablyDimensioned10LBFGSCentralCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(VariablyDimensioned10LBFGSCentralOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		variablyDimensioned10LBFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := variablyDimensioned10LBFGSCentralDot(&g, &d)
 		if !(now < 0) || !variablyDimensioned10LBFGSCentralFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			variablyDimensioned10LBFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = variablyDimensioned10LBFGSCentralDot(&g, &d)
 		}
 		first := float64(variablyDimensioned10LBFGSCentralStepInitial)
@@ -268,7 +272,7 @@ func variablyDimensioned10LBFGSCentralMinimize(x0 [10]float64, lim VariablyDimen
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := variablyDimensioned10LBFGSCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := variablyDimensioned10LBFGSCentralLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := variablyDimensioned10LBFGSCentralLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case variablyDimensioned10LBFGSCentralSearchOutOfBudget:
@@ -304,8 +308,7 @@ func variablyDimensioned10LBFGSCentralMinimize(x0 [10]float64, lim VariablyDimen
 				}
 				return best.ending(VariablyDimensioned10LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			variablyDimensioned10LBFGSCentralDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += variablyDimensioned10LBFGSCentralDerivativeCost
+			out.evaluations += variablyDimensioned10LBFGSCentralDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		variablyDimensioned10LBFGSCentralDifference(&s, &xt, &x)
@@ -346,6 +349,10 @@ func (o variablyDimensioned10LBFGSCentralOutcome) ending(end VariablyDimensioned
 	return o
 }
 
+// variablyDimensioned10LBFGSCentralEnterBox: without bounds every start is inside.
+func variablyDimensioned10LBFGSCentralEnterBox(x *[10]float64, b *variablyDimensioned10LBFGSCentralBox) {
+}
+
 // variablyDimensioned10LBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -368,15 +375,17 @@ func variablyDimensioned10LBFGSCentralFiniteVec(x *[10]float64) bool {
 	return true
 }
 
-// variablyDimensioned10LBFGSCentralDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// variablyDimensioned10LBFGSCentralDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type variablyDimensioned10LBFGSCentralDifferences struct {
 	ratio     [10]float64
 	curvature [10]float64
 	second    [10]float64 // |f″| along e_i, for the rounding floor of a stall (see variablyDimensioned10LBFGSCentralRoundingFloor)
+	bounds    variablyDimensioned10LBFGSCentralBox
 }
 
 // variablyDimensioned10LBFGSCentralCalibrate chooses each central-difference interval from the
@@ -398,19 +407,45 @@ func variablyDimensioned10LBFGSCentralCalibrate(x *[10]float64, fx float64, diff
 	var slope [10]float64
 	scale := variablyDimensioned10LBFGSCentralAbs(fx)
 	quarter := variablyDimensioned10LBFGSCentralSquareRoot(variablyDimensioned10LBFGSCentralSquareRoot(variablyDimensioned10LBFGSCentralUnitRoundoff)) // u^(1/4)
+	calls := 0
 	for i := range probe {
-		if 4*(i+1) > budget {
-			return 4 * i, false
+		if calls+4 > budget {
+			return calls, false
 		}
 		xi := probe[i]
 		bar := quarter * variablyDimensioned10LBFGSCentralLarger(1, variablyDimensioned10LBFGSCentralAbs(xi))
+		lower, upper := variablyDimensioned10LBFGSCentralCoordinateRange(i, diffs)
+		if xi+2*bar > upper || xi-2*bar < lower {
+			// At a bound: three probes on the side with room, at h, 2h
+			// and 3h, for f‴ ≈ (f(3h) − 3f(2h) + 3f(h) − f(0))/h³ (the
+			// third forward difference).
+			h := variablyDimensioned10LBFGSCentralOneSide(xi, bar, 3, lower, upper)
+			if h == 0 {
+				continue // fixed by equal bounds
+			}
+			var f [3]float64
+			for k := range f {
+				probe[i], _ = variablyDimensioned10LBFGSCentralProbeStep(xi, float64(k+1)*h, lower, upper)
+				f[k] = VariablyDimensioned10(&probe)
+				scale = variablyDimensioned10LBFGSCentralLarger(scale, variablyDimensioned10LBFGSCentralMagnitude(f[k]))
+			}
+			probe[i] = xi
+			calls += 3
+			if variablyDimensioned10LBFGSCentralFinite(f[0]) && variablyDimensioned10LBFGSCentralFinite(f[1]) && variablyDimensioned10LBFGSCentralFinite(f[2]) {
+				diffs.curvature[i] = variablyDimensioned10LBFGSCentralAbs(f[2]-3*f[1]+3*f[0]-fx) / variablyDimensioned10LBFGSCentralAbs(h*h*h)
+				diffs.second[i] = variablyDimensioned10LBFGSCentralAbs(fx-2*f[0]+f[1]) / (h * h)
+				slope[i] = (-3*fx + 4*f[0] - f[1]) / (2 * h)
+			}
+			continue
+		}
 		var f [4]float64
 		for k, m := range [4]float64{2, 1, -1, -2} {
-			probe[i], _ = variablyDimensioned10LBFGSCentralProbeStep(xi, m*bar)
+			probe[i], _ = variablyDimensioned10LBFGSCentralProbeStep(xi, m*bar, lower, upper)
 			f[k] = VariablyDimensioned10(&probe)
 			scale = variablyDimensioned10LBFGSCentralLarger(scale, variablyDimensioned10LBFGSCentralMagnitude(f[k]))
 		}
 		probe[i] = xi
+		calls += 4
 		if variablyDimensioned10LBFGSCentralFinite(f[0]) && variablyDimensioned10LBFGSCentralFinite(f[1]) && variablyDimensioned10LBFGSCentralFinite(f[2]) && variablyDimensioned10LBFGSCentralFinite(f[3]) {
 			diffs.curvature[i] = variablyDimensioned10LBFGSCentralAbs(f[0]-2*f[1]+2*f[2]-f[3]) / (2 * bar * bar * bar)
 			diffs.second[i] = variablyDimensioned10LBFGSCentralAbs(f[1]-2*fx+f[2]) / (bar * bar)
@@ -429,7 +464,7 @@ func variablyDimensioned10LBFGSCentralCalibrate(x *[10]float64, fx float64, diff
 		diffs.ratio[i] = variablyDimensioned10LBFGSCentralClampBetween(h, 64*variablyDimensioned10LBFGSCentralUnitRoundoff*s, bar) / s
 		diffs.curvature[i] = third
 	}
-	return 4 * len(probe), true
+	return calls, true
 }
 
 // variablyDimensioned10LBFGSCentralAbs returns |v|.
@@ -455,10 +490,48 @@ func variablyDimensioned10LBFGSCentralLarger(a, b float64) float64 {
 	return b
 }
 
-// variablyDimensioned10LBFGSCentralProbeStep returns x_i moved by h, and the step actually representable.
-func variablyDimensioned10LBFGSCentralProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// variablyDimensioned10LBFGSCentralCoordinateRange: without bounds any probe is allowed.
+func variablyDimensioned10LBFGSCentralCoordinateRange(i int, diffs *variablyDimensioned10LBFGSCentralDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// variablyDimensioned10LBFGSCentralOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func variablyDimensioned10LBFGSCentralOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
+}
+
+// variablyDimensioned10LBFGSCentralProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func variablyDimensioned10LBFGSCentralProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := variablyDimensioned10LBFGSCentralClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// variablyDimensioned10LBFGSCentralClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func variablyDimensioned10LBFGSCentralClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
 }
 
 // variablyDimensioned10LBFGSCentralMagnitude is |v| for a finite v and 0 otherwise: a probe that fell
@@ -494,42 +567,85 @@ func variablyDimensioned10LBFGSCentralCubeRoot(v float64) float64 {
 	return math.Cbrt(v)
 }
 
-// variablyDimensioned10LBFGSCentralClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func variablyDimensioned10LBFGSCentralClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
-}
-
 // variablyDimensioned10LBFGSCentralDerivative approximates the gradient by central differences,
 //
 //	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),
 //
 // with the intervals variablyDimensioned10LBFGSCentralCalibrate chose, h_i = ratio_i·max(1, |x_i|)
-// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls; fx is
-// not needed.
-func variablyDimensioned10LBFGSCentralDerivative(x *[10]float64, fx float64, g *[10]float64, diffs *variablyDimensioned10LBFGSCentralDifferences) {
+// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls. Where
+// a bound leaves no room on one side, the three-point endpoint formula on
+// the other side takes its place at the same cost (see parabola); a
+// variable fixed by equal bounds costs nothing and gets 0.
+func variablyDimensioned10LBFGSCentralDerivative(x *[10]float64, fx float64, g *[10]float64, diffs *variablyDimensioned10LBFGSCentralDifferences) int {
 	probe := *x
+	calls := 0
 	for i := range probe {
 		xi := probe[i]
-		h := diffs.ratio[i] * variablyDimensioned10LBFGSCentralLarger(1, variablyDimensioned10LBFGSCentralAbs(xi))
-		up, _ := variablyDimensioned10LBFGSCentralProbeStep(xi, h)
-		down, _ := variablyDimensioned10LBFGSCentralProbeStep(xi, -h)
-		probe[i] = up
-		fUp := VariablyDimensioned10(&probe)
-		probe[i] = down
-		fDown := VariablyDimensioned10(&probe)
-		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
-		probe[i] = xi
+		h, oneSided := variablyDimensioned10LBFGSCentralCentralInterval(x, i, diffs)
+		lower, upper := variablyDimensioned10LBFGSCentralCoordinateRange(i, diffs)
+		switch {
+		case h == 0:
+			g[i] = 0 // fixed by equal bounds
+			continue
+		case oneSided:
+			g[i], _, _ = variablyDimensioned10LBFGSCentralSidedProbes(&probe, i, fx, h, lower, upper) // the three-point endpoint formula
+		default:
+			up, _ := variablyDimensioned10LBFGSCentralProbeStep(xi, h, lower, upper)
+			down, _ := variablyDimensioned10LBFGSCentralProbeStep(xi, -h, lower, upper)
+			probe[i] = up
+			fUp := VariablyDimensioned10(&probe)
+			probe[i] = down
+			fDown := VariablyDimensioned10(&probe)
+			g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+			probe[i] = xi
+		}
+		calls += 2
 	}
+	return calls
+}
+
+// variablyDimensioned10LBFGSCentralCentralInterval is the interval of coordinate i at x, ratio_i·max(1,
+// |x_i|), and whether the box leaves room for probes on both sides; when
+// it does not, the interval is signed towards the side with room for
+// probes at h and 2h, and shortened where the box is narrower than that
+// (see variablyDimensioned10LBFGSCentralOneSide).
+func variablyDimensioned10LBFGSCentralCentralInterval(x *[10]float64, i int, diffs *variablyDimensioned10LBFGSCentralDifferences) (h float64, oneSided bool) {
+	lower, upper := variablyDimensioned10LBFGSCentralCoordinateRange(i, diffs)
+	h = diffs.ratio[i] * variablyDimensioned10LBFGSCentralLarger(1, variablyDimensioned10LBFGSCentralAbs(x[i]))
+	if x[i]+h <= upper && x[i]-h >= lower {
+		return h, false
+	}
+	return variablyDimensioned10LBFGSCentralOneSide(x[i], h, 2, lower, upper), true
+}
+
+// variablyDimensioned10LBFGSCentralSidedProbes evaluates f at x moved along coordinate i by h and by 2h,
+// kept within [lower, upper], and returns the slope and second derivative
+// of the parabola through them and (x, fx) (see parabola), and the larger
+// magnitude of the two values.
+func variablyDimensioned10LBFGSCentralSidedProbes(probe *[10]float64, i int, fx, h, lower, upper float64) (slope, second, size float64) {
+	xi := probe[i]
+	near, a := variablyDimensioned10LBFGSCentralProbeStep(xi, h, lower, upper)
+	far, b := variablyDimensioned10LBFGSCentralProbeStep(xi, 2*h, lower, upper)
+	probe[i] = near
+	fNear := VariablyDimensioned10(probe)
+	probe[i] = far
+	fFar := VariablyDimensioned10(probe)
+	probe[i] = xi
+	slope, second = variablyDimensioned10LBFGSCentralParabola(fx, a, fNear, b, fFar)
+	return slope, second, variablyDimensioned10LBFGSCentralLarger(variablyDimensioned10LBFGSCentralMagnitude(fNear), variablyDimensioned10LBFGSCentralMagnitude(fFar))
+}
+
+// variablyDimensioned10LBFGSCentralParabola returns the first and second derivatives at 0 of the parabola
+// through (0, f0), (a, fa) and (b, fb), for probes on one side of a bound.
+// With b = 2a they are the three-point endpoint formulas
+// f′ ≈ (−3f0 + 4fa − fb)/(2a), error a²|f‴|/3, and
+// f″ ≈ (f0 − 2fa + fb)/a² (Burden & Faires, Numerical Analysis, §4.1
+// and §4.1's second-derivative formulas, from memory); written for unequal
+// a and b, so that the representable steps can be used.
+func variablyDimensioned10LBFGSCentralParabola(f0, a, fa, b, fb float64) (slope, second float64) {
+	slope = -(a+b)/(a*b)*f0 + b/(a*(b-a))*fa - a/(b*(b-a))*fb
+	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
+	return slope, second
 }
 
 // variablyDimensioned10LBFGSCentralDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
@@ -694,13 +810,13 @@ func variablyDimensioned10LBFGSCentralConfirmGradient(x *[10]float64, fx float64
 		wide.ratio[i] *= 2
 	}
 	var doubled [10]float64
-	variablyDimensioned10LBFGSCentralDerivative(x, fx, g, diffs)
-	variablyDimensioned10LBFGSCentralDerivative(x, fx, &doubled, &wide)
+	calls += variablyDimensioned10LBFGSCentralDerivative(x, fx, g, diffs)
+	calls += variablyDimensioned10LBFGSCentralDerivative(x, fx, &doubled, &wide)
 	variablyDimensioned10LBFGSCentralGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * variablyDimensioned10LBFGSCentralAbs(g[i]-doubled[i])
 	}
-	return calls + 2*variablyDimensioned10LBFGSCentralDerivativeCost, true
+	return calls, true
 }
 
 // variablyDimensioned10LBFGSCentralGradientError bounds each central difference's error by twice its
@@ -710,8 +826,16 @@ func variablyDimensioned10LBFGSCentralConfirmGradient(x *[10]float64, fx float64
 func variablyDimensioned10LBFGSCentralGradientError(x *[10]float64, fx float64, g, e *[10]float64, diffs *variablyDimensioned10LBFGSCentralDifferences) {
 	noise := variablyDimensioned10LBFGSCentralNoiseLevel(x, fx, g)
 	for i := range e {
-		h := diffs.ratio[i] * variablyDimensioned10LBFGSCentralLarger(1, variablyDimensioned10LBFGSCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		h, oneSided := variablyDimensioned10LBFGSCentralCentralInterval(x, i, diffs)
+		h = variablyDimensioned10LBFGSCentralAbs(h)
+		switch {
+		case h == 0:
+			e[i] = 0 // fixed by equal bounds
+		case oneSided:
+			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+		default:
+			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		}
 	}
 }
 
@@ -733,6 +857,11 @@ func variablyDimensioned10LBFGSCentralRoundingFloor(x, g, e *[10]float64, diffs 
 // calibration, which variablyDimensioned10LBFGSCentralConfirmGradient has just made at x.
 func variablyDimensioned10LBFGSCentralDiagonalCurvature(x, g *[10]float64, diffs *variablyDimensioned10LBFGSCentralDifferences, h *[10]float64) {
 	*h = diffs.second
+}
+
+// variablyDimensioned10LBFGSCentralStationarity measures the gradient itself.
+func variablyDimensioned10LBFGSCentralStationarity(g, e, x *[10]float64, fx float64, b *variablyDimensioned10LBFGSCentralBox) (measure, floor float64) {
+	return variablyDimensioned10LBFGSCentralGradientMeasure(g, e, x, fx)
 }
 
 // variablyDimensioned10LBFGSCentralGradientMeasure is the scale-free measure
@@ -768,6 +897,15 @@ func variablyDimensioned10LBFGSCentralStepWithin(s, x *[10]float64, tol float64)
 	return true
 }
 
+// variablyDimensioned10LBFGSCentralCurvaturePair: without bounds the pair is used as it is.
+func variablyDimensioned10LBFGSCentralCurvaturePair(s, y, x *[10]float64, b *variablyDimensioned10LBFGSCentralBox) {
+}
+
+// variablyDimensioned10LBFGSCentralSearchDirection is the direction's own.
+func variablyDimensioned10LBFGSCentralSearchDirection(dir *variablyDimensioned10LBFGSCentralDirection, x, g, d *[10]float64, b *variablyDimensioned10LBFGSCentralBox) {
+	dir.compute(g, d)
+}
+
 // variablyDimensioned10LBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func variablyDimensioned10LBFGSCentralTinyStep(x, d *[10]float64, tol float64) float64 {
@@ -795,7 +933,10 @@ func variablyDimensioned10LBFGSCentralTinyStep(x, d *[10]float64, tol float64) f
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (variablyDimensioned10LBFGSCentralStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -804,13 +945,17 @@ func variablyDimensioned10LBFGSCentralTinyStep(x, d *[10]float64, tol float64) f
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func variablyDimensioned10LBFGSCentralLineSearch(x *[10]float64, fx float64, d *[10]float64, slope, first, tiny float64, budget int, xt, gt *[10]float64, diffs *variablyDimensioned10LBFGSCentralDifferences) variablyDimensioned10LBFGSCentralLineResult {
+func variablyDimensioned10LBFGSCentralLineSearch(x *[10]float64, fx float64, g, d *[10]float64, slope, first, tiny float64, budget int, xt, gt *[10]float64, diffs *variablyDimensioned10LBFGSCentralDifferences) variablyDimensioned10LBFGSCentralLineResult {
 	low := variablyDimensioned10LBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high variablyDimensioned10LBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [10]float64                                                                // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend variablyDimensioned10LBFGSCentralRiseTrend // of the trials failing sufficient decrease
+	var trend variablyDimensioned10LBFGSCentralRiseTrend                         // of the trials failing sufficient decrease
+	limit := variablyDimensioned10LBFGSCentralStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < variablyDimensioned10LBFGSCentralStepTrials; trial++ {
 		if bracketed && variablyDimensioned10LBFGSCentralAbs(high.step-low.step) <= tiny {
@@ -820,12 +965,12 @@ func variablyDimensioned10LBFGSCentralLineSearch(x *[10]float64, fx float64, d *
 			if low.step == 0 {
 				return variablyDimensioned10LBFGSCentralLineResult{calls: calls, rising: trend.contradicts(), end: variablyDimensioned10LBFGSCentralTinyOrExhausted(variablyDimensioned10LBFGSCentralFinite(high.value))}
 			}
-			return variablyDimensioned10LBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return variablyDimensioned10LBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return variablyDimensioned10LBFGSCentralLineResult{calls: calls, end: variablyDimensioned10LBFGSCentralSearchOutOfBudget}
 		}
-		variablyDimensioned10LBFGSCentralMoveTo(xt, x, t, d)
+		variablyDimensioned10LBFGSCentralTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := variablyDimensioned10LBFGSCentralLinePoint{step: t, value: VariablyDimensioned10(xt)}
 		calls++
 		previous := low
@@ -836,8 +981,7 @@ func variablyDimensioned10LBFGSCentralLineSearch(x *[10]float64, fx float64, d *
 			if calls+variablyDimensioned10LBFGSCentralDerivativeCost > budget {
 				return variablyDimensioned10LBFGSCentralLineResult{calls: calls, end: variablyDimensioned10LBFGSCentralSearchOutOfBudget}
 			}
-			variablyDimensioned10LBFGSCentralDerivative(xt, current.value, gt, diffs)
-			calls += variablyDimensioned10LBFGSCentralDerivativeCost
+			calls += variablyDimensioned10LBFGSCentralDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = variablyDimensioned10LBFGSCentralDot(gt, d), true
 			switch {
 			case !variablyDimensioned10LBFGSCentralFinite(current.slope):
@@ -848,18 +992,22 @@ func variablyDimensioned10LBFGSCentralLineSearch(x *[10]float64, fx float64, d *
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return variablyDimensioned10LBFGSCentralLineResult{step: t, value: current.value, calls: calls, gradient: true, end: variablyDimensioned10LBFGSCentralSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = variablyDimensioned10LBFGSCentralZoomTrial(&low, &high)
-		} else {
-			t = variablyDimensioned10LBFGSCentralExpandTrial(&previous, &current)
+		} else if t = variablyDimensioned10LBFGSCentralExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return variablyDimensioned10LBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return variablyDimensioned10LBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return variablyDimensioned10LBFGSCentralLineResult{calls: calls, rising: trend.contradicts(), end: variablyDimensioned10LBFGSCentralSearchExhausted}
 }
@@ -946,6 +1094,11 @@ func variablyDimensioned10LBFGSCentralFaithfulStep(x, xt, d *[10]float64, t floa
 	return true
 }
 
+// variablyDimensioned10LBFGSCentralStepCap: without bounds a step may be as long as the search wants.
+func variablyDimensioned10LBFGSCentralStepCap(x, d *[10]float64, tiny float64, b *variablyDimensioned10LBFGSCentralBox) float64 {
+	return math.Inf(1)
+}
+
 // variablyDimensioned10LBFGSCentralTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -970,10 +1123,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func variablyDimensioned10LBFGSCentralAcceptLow(x, d *[10]float64, low *variablyDimensioned10LBFGSCentralLinePoint, lowGradient *[10]float64, calls int, xt, gt *[10]float64) variablyDimensioned10LBFGSCentralLineResult {
-	variablyDimensioned10LBFGSCentralMoveTo(xt, x, low.step, d)
+func variablyDimensioned10LBFGSCentralAcceptLow(x, d *[10]float64, low *variablyDimensioned10LBFGSCentralLinePoint, lowGradient *[10]float64, calls int, xt, gt *[10]float64, diffs *variablyDimensioned10LBFGSCentralDifferences) variablyDimensioned10LBFGSCentralLineResult {
+	variablyDimensioned10LBFGSCentralTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return variablyDimensioned10LBFGSCentralLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: variablyDimensioned10LBFGSCentralSearchAccepted}
+}
+
+// variablyDimensioned10LBFGSCentralTrialPoint is x + t·d.
+func variablyDimensioned10LBFGSCentralTrialPoint(out, x *[10]float64, t float64, d *[10]float64, b *variablyDimensioned10LBFGSCentralBox) {
+	variablyDimensioned10LBFGSCentralMoveTo(out, x, t, d)
 }
 
 // variablyDimensioned10LBFGSCentralMoveTo sets out = x + t·d.

@@ -88,6 +88,9 @@ func Watson6BFGSAnalyticDefaultLimits() Watson6BFGSAnalyticLimits {
 	}
 }
 
+// watson6BFGSAnalyticBox is empty: mgh.toml sets no bounds on Watson6BFGSAnalytic.
+type watson6BFGSAnalyticBox struct{}
+
 // Watson6BFGSAnalytic minimizes Watson6 from x0, as mgh.toml specifies.
 //
 // Direction bfgs: BFGS quasi-Newton with a dense inverse-Hessian approximation (dim² numbers).
@@ -105,7 +108,7 @@ func Watson6BFGSAnalytic(x0 [6]float64) Watson6BFGSAnalyticResult {
 
 // Watson6BFGSAnalyticWithLimits is Watson6BFGSAnalytic with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func Watson6BFGSAnalyticWithLimits(x0 [6]float64, limits Watson6BFGSAnalyticLimits) Watson6BFGSAnalyticResult {
-	out := watson6BFGSAnalyticMinimize(x0, limits)
+	out := watson6BFGSAnalyticMinimize(x0, limits, watson6BFGSAnalyticBox{})
 	return Watson6BFGSAnalyticResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func watson6BFGSAnalyticMinimize(x0 [6]float64, lim Watson6BFGSAnalyticLimits) watson6BFGSAnalyticOutcome {
-	out := watson6BFGSAnalyticOutcome{x: x0, status: Watson6BFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
+func watson6BFGSAnalyticMinimize(x0 [6]float64, lim Watson6BFGSAnalyticLimits, bounds watson6BFGSAnalyticBox) watson6BFGSAnalyticOutcome {
+	x := x0
+	watson6BFGSAnalyticEnterBox(&x, &bounds)
+	out := watson6BFGSAnalyticOutcome{x: x, status: Watson6BFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := Watson6(&x)
 	out.f, out.evaluations = fx, 1
 	if !watson6BFGSAnalyticFinite(fx) || !watson6BFGSAnalyticFiniteVec(&x) {
 		out.status = Watson6BFGSAnalyticNonFiniteStart
 		return out
 	}
-	var diffs watson6BFGSAnalyticDifferences
+	diffs := watson6BFGSAnalyticDifferences{bounds: bounds}
 	calls, ok := watson6BFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+watson6BFGSAnalyticDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [6]float64
-	watson6BFGSAnalyticDerivative(&x, fx, &g, &diffs)
-	out.evaluations += watson6BFGSAnalyticDerivativeCost
+	out.evaluations += watson6BFGSAnalyticDerivative(&x, fx, &g, &diffs)
 
 	if !watson6BFGSAnalyticFiniteVec(&g) {
 		out.status = Watson6BFGSAnalyticNonFiniteGradient
@@ -211,7 +214,7 @@ func watson6BFGSAnalyticMinimize(x0 [6]float64, lim Watson6BFGSAnalyticLimits) w
 		case !confirmed:
 			watson6BFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := watson6BFGSAnalyticGradientMeasure(&g, &e, &x, fx)
+		measure, floor := watson6BFGSAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, watson6BFGSAnalyticLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func watson6BFGSAnalyticMinimize(x0 [6]float64, lim Watson6BFGSAnalyticLimits) w
 			if rises >= 8 {
 				return best.ending(Watson6BFGSAnalyticDiverged, out.iterations, out.evaluations)
 			}
+			watson6BFGSAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(Watson6BFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		watson6BFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := watson6BFGSAnalyticDot(&g, &d)
 		if !(now < 0) || !watson6BFGSAnalyticFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			watson6BFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = watson6BFGSAnalyticDot(&g, &d)
 		}
 		first := float64(watson6BFGSAnalyticStepInitial)
@@ -267,7 +271,7 @@ func watson6BFGSAnalyticMinimize(x0 [6]float64, lim Watson6BFGSAnalyticLimits) w
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := watson6BFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := watson6BFGSAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := watson6BFGSAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case watson6BFGSAnalyticSearchOutOfBudget:
@@ -303,8 +307,7 @@ func watson6BFGSAnalyticMinimize(x0 [6]float64, lim Watson6BFGSAnalyticLimits) w
 				}
 				return best.ending(Watson6BFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			watson6BFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += watson6BFGSAnalyticDerivativeCost
+			out.evaluations += watson6BFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		watson6BFGSAnalyticDifference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o watson6BFGSAnalyticOutcome) ending(end Watson6BFGSAnalyticStatus, iterat
 	return o
 }
 
+// watson6BFGSAnalyticEnterBox: without bounds every start is inside.
+func watson6BFGSAnalyticEnterBox(x *[6]float64, b *watson6BFGSAnalyticBox) {}
+
 // watson6BFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func watson6BFGSAnalyticFiniteVec(x *[6]float64) bool {
 	return true
 }
 
-// watson6BFGSAnalyticDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// watson6BFGSAnalyticDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type watson6BFGSAnalyticDifferences struct {
 	ratio     [6]float64
 	curvature [6]float64
 	second    [6]float64 // |f″| along e_i, for the rounding floor of a stall (see watson6BFGSAnalyticRoundingFloor)
+	bounds    watson6BFGSAnalyticBox
 }
 
 // watson6BFGSAnalyticCalibrate: an analytic gradient needs no intervals.
@@ -384,8 +392,9 @@ func watson6BFGSAnalyticCalibrate(x *[6]float64, fx float64, diffs *watson6BFGSA
 }
 
 // watson6BFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func watson6BFGSAnalyticDerivative(x *[6]float64, fx float64, g *[6]float64, diffs *watson6BFGSAnalyticDifferences) {
+func watson6BFGSAnalyticDerivative(x *[6]float64, fx float64, g *[6]float64, diffs *watson6BFGSAnalyticDifferences) int {
 	Watson6Grad(x, g)
+	return 0
 }
 
 // watson6BFGSAnalyticDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
@@ -525,13 +534,13 @@ func watson6BFGSAnalyticConfirmGradient(x *[6]float64, fx float64, g, e *[6]floa
 		wide.ratio[i] *= 2
 	}
 	var doubled [6]float64
-	watson6BFGSAnalyticDerivative(x, fx, g, diffs)
-	watson6BFGSAnalyticDerivative(x, fx, &doubled, &wide)
+	calls += watson6BFGSAnalyticDerivative(x, fx, g, diffs)
+	calls += watson6BFGSAnalyticDerivative(x, fx, &doubled, &wide)
 	watson6BFGSAnalyticGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * watson6BFGSAnalyticAbs(g[i]-doubled[i])
 	}
-	return calls + 2*watson6BFGSAnalyticDerivativeCost, true
+	return calls, true
 }
 
 // watson6BFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
@@ -573,18 +582,60 @@ func watson6BFGSAnalyticDiagonalCurvature(x, g *[6]float64, diffs *watson6BFGSAn
 	var moved [6]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := watson6BFGSAnalyticProbeStep(xi, watson6BFGSAnalyticSquareRoot(watson6BFGSAnalyticUnitRoundoff)*watson6BFGSAnalyticLarger(1, watson6BFGSAnalyticAbs(xi)))
-		probe[i] = up
-		Watson6Grad(&probe, &moved)
-		h[i] = watson6BFGSAnalyticAbs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := watson6BFGSAnalyticCoordinateRange(i, diffs)
+		up, delta := watson6BFGSAnalyticProbeStep(xi, watson6BFGSAnalyticOneSide(xi, watson6BFGSAnalyticSquareRoot(watson6BFGSAnalyticUnitRoundoff)*watson6BFGSAnalyticLarger(1, watson6BFGSAnalyticAbs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			Watson6Grad(&probe, &moved)
+			h[i] = watson6BFGSAnalyticAbs(moved[i]-g[i]) / watson6BFGSAnalyticAbs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// watson6BFGSAnalyticProbeStep returns x_i moved by h, and the step actually representable.
-func watson6BFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// watson6BFGSAnalyticCoordinateRange: without bounds any probe is allowed.
+func watson6BFGSAnalyticCoordinateRange(i int, diffs *watson6BFGSAnalyticDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// watson6BFGSAnalyticProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func watson6BFGSAnalyticProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := watson6BFGSAnalyticClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// watson6BFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func watson6BFGSAnalyticClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// watson6BFGSAnalyticOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func watson6BFGSAnalyticOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // watson6BFGSAnalyticSquareRoot returns √v.
@@ -600,6 +651,11 @@ func watson6BFGSAnalyticLarger(a, b float64) float64 {
 		return a
 	}
 	return b
+}
+
+// watson6BFGSAnalyticStationarity measures the gradient itself.
+func watson6BFGSAnalyticStationarity(g, e, x *[6]float64, fx float64, b *watson6BFGSAnalyticBox) (measure, floor float64) {
+	return watson6BFGSAnalyticGradientMeasure(g, e, x, fx)
 }
 
 // watson6BFGSAnalyticGradientMeasure is the scale-free measure
@@ -635,6 +691,14 @@ func watson6BFGSAnalyticStepWithin(s, x *[6]float64, tol float64) bool {
 	return true
 }
 
+// watson6BFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
+func watson6BFGSAnalyticCurvaturePair(s, y, x *[6]float64, b *watson6BFGSAnalyticBox) {}
+
+// watson6BFGSAnalyticSearchDirection is the direction's own.
+func watson6BFGSAnalyticSearchDirection(dir *watson6BFGSAnalyticDirection, x, g, d *[6]float64, b *watson6BFGSAnalyticBox) {
+	dir.compute(g, d)
+}
+
 // watson6BFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func watson6BFGSAnalyticTinyStep(x, d *[6]float64, tol float64) float64 {
@@ -662,7 +726,10 @@ func watson6BFGSAnalyticTinyStep(x, d *[6]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (watson6BFGSAnalyticStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -671,13 +738,17 @@ func watson6BFGSAnalyticTinyStep(x, d *[6]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func watson6BFGSAnalyticLineSearch(x *[6]float64, fx float64, d *[6]float64, slope, first, tiny float64, budget int, xt, gt *[6]float64, diffs *watson6BFGSAnalyticDifferences) watson6BFGSAnalyticLineResult {
+func watson6BFGSAnalyticLineSearch(x *[6]float64, fx float64, g, d *[6]float64, slope, first, tiny float64, budget int, xt, gt *[6]float64, diffs *watson6BFGSAnalyticDifferences) watson6BFGSAnalyticLineResult {
 	low := watson6BFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high watson6BFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [6]float64                                                   // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend watson6BFGSAnalyticRiseTrend // of the trials failing sufficient decrease
+	var trend watson6BFGSAnalyticRiseTrend                         // of the trials failing sufficient decrease
+	limit := watson6BFGSAnalyticStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < watson6BFGSAnalyticStepTrials; trial++ {
 		if bracketed && watson6BFGSAnalyticAbs(high.step-low.step) <= tiny {
@@ -687,12 +758,12 @@ func watson6BFGSAnalyticLineSearch(x *[6]float64, fx float64, d *[6]float64, slo
 			if low.step == 0 {
 				return watson6BFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: watson6BFGSAnalyticTinyOrExhausted(watson6BFGSAnalyticFinite(high.value))}
 			}
-			return watson6BFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return watson6BFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return watson6BFGSAnalyticLineResult{calls: calls, end: watson6BFGSAnalyticSearchOutOfBudget}
 		}
-		watson6BFGSAnalyticMoveTo(xt, x, t, d)
+		watson6BFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := watson6BFGSAnalyticLinePoint{step: t, value: Watson6(xt)}
 		calls++
 		previous := low
@@ -703,8 +774,7 @@ func watson6BFGSAnalyticLineSearch(x *[6]float64, fx float64, d *[6]float64, slo
 			if calls+watson6BFGSAnalyticDerivativeCost > budget {
 				return watson6BFGSAnalyticLineResult{calls: calls, end: watson6BFGSAnalyticSearchOutOfBudget}
 			}
-			watson6BFGSAnalyticDerivative(xt, current.value, gt, diffs)
-			calls += watson6BFGSAnalyticDerivativeCost
+			calls += watson6BFGSAnalyticDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = watson6BFGSAnalyticDot(gt, d), true
 			switch {
 			case !watson6BFGSAnalyticFinite(current.slope):
@@ -715,18 +785,22 @@ func watson6BFGSAnalyticLineSearch(x *[6]float64, fx float64, d *[6]float64, slo
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return watson6BFGSAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: watson6BFGSAnalyticSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = watson6BFGSAnalyticZoomTrial(&low, &high)
-		} else {
-			t = watson6BFGSAnalyticExpandTrial(&previous, &current)
+		} else if t = watson6BFGSAnalyticExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return watson6BFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return watson6BFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return watson6BFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: watson6BFGSAnalyticSearchExhausted}
 }
@@ -813,6 +887,11 @@ func watson6BFGSAnalyticFaithfulStep(x, xt, d *[6]float64, t float64) bool {
 	return true
 }
 
+// watson6BFGSAnalyticStepCap: without bounds a step may be as long as the search wants.
+func watson6BFGSAnalyticStepCap(x, d *[6]float64, tiny float64, b *watson6BFGSAnalyticBox) float64 {
+	return math.Inf(1)
+}
+
 // watson6BFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -837,10 +916,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func watson6BFGSAnalyticAcceptLow(x, d *[6]float64, low *watson6BFGSAnalyticLinePoint, lowGradient *[6]float64, calls int, xt, gt *[6]float64) watson6BFGSAnalyticLineResult {
-	watson6BFGSAnalyticMoveTo(xt, x, low.step, d)
+func watson6BFGSAnalyticAcceptLow(x, d *[6]float64, low *watson6BFGSAnalyticLinePoint, lowGradient *[6]float64, calls int, xt, gt *[6]float64, diffs *watson6BFGSAnalyticDifferences) watson6BFGSAnalyticLineResult {
+	watson6BFGSAnalyticTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return watson6BFGSAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: watson6BFGSAnalyticSearchAccepted}
+}
+
+// watson6BFGSAnalyticTrialPoint is x + t·d.
+func watson6BFGSAnalyticTrialPoint(out, x *[6]float64, t float64, d *[6]float64, b *watson6BFGSAnalyticBox) {
+	watson6BFGSAnalyticMoveTo(out, x, t, d)
 }
 
 // watson6BFGSAnalyticMoveTo sets out = x + t·d.
@@ -895,21 +979,6 @@ func watson6BFGSAnalyticModelMinimizer(a, b *watson6BFGSAnalyticLinePoint) (t fl
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, watson6BFGSAnalyticFinite(t)
-}
-
-// watson6BFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func watson6BFGSAnalyticClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // watson6BFGSAnalyticExpandTrial picks a larger trial after current met sufficient decrease

@@ -88,6 +88,9 @@ func Watson6CGAnalyticDefaultLimits() Watson6CGAnalyticLimits {
 	}
 }
 
+// watson6CGAnalyticBox is empty: mgh.toml sets no bounds on Watson6CGAnalytic.
+type watson6CGAnalyticBox struct{}
+
 // Watson6CGAnalytic minimizes Watson6 from x0, as mgh.toml specifies.
 //
 // Direction cg: nonlinear conjugate gradients, Polak–Ribière clipped at zero (PR+), restarted every dim steps.
@@ -105,7 +108,7 @@ func Watson6CGAnalytic(x0 [6]float64) Watson6CGAnalyticResult {
 
 // Watson6CGAnalyticWithLimits is Watson6CGAnalytic with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func Watson6CGAnalyticWithLimits(x0 [6]float64, limits Watson6CGAnalyticLimits) Watson6CGAnalyticResult {
-	out := watson6CGAnalyticMinimize(x0, limits)
+	out := watson6CGAnalyticMinimize(x0, limits, watson6CGAnalyticBox{})
 	return Watson6CGAnalyticResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func watson6CGAnalyticMinimize(x0 [6]float64, lim Watson6CGAnalyticLimits) watson6CGAnalyticOutcome {
-	out := watson6CGAnalyticOutcome{x: x0, status: Watson6CGAnalyticOutOfEvaluations, gradient: math.NaN()}
+func watson6CGAnalyticMinimize(x0 [6]float64, lim Watson6CGAnalyticLimits, bounds watson6CGAnalyticBox) watson6CGAnalyticOutcome {
+	x := x0
+	watson6CGAnalyticEnterBox(&x, &bounds)
+	out := watson6CGAnalyticOutcome{x: x, status: Watson6CGAnalyticOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := Watson6(&x)
 	out.f, out.evaluations = fx, 1
 	if !watson6CGAnalyticFinite(fx) || !watson6CGAnalyticFiniteVec(&x) {
 		out.status = Watson6CGAnalyticNonFiniteStart
 		return out
 	}
-	var diffs watson6CGAnalyticDifferences
+	diffs := watson6CGAnalyticDifferences{bounds: bounds}
 	calls, ok := watson6CGAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+watson6CGAnalyticDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [6]float64
-	watson6CGAnalyticDerivative(&x, fx, &g, &diffs)
-	out.evaluations += watson6CGAnalyticDerivativeCost
+	out.evaluations += watson6CGAnalyticDerivative(&x, fx, &g, &diffs)
 
 	if !watson6CGAnalyticFiniteVec(&g) {
 		out.status = Watson6CGAnalyticNonFiniteGradient
@@ -211,7 +214,7 @@ func watson6CGAnalyticMinimize(x0 [6]float64, lim Watson6CGAnalyticLimits) watso
 		case !confirmed:
 			watson6CGAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := watson6CGAnalyticGradientMeasure(&g, &e, &x, fx)
+		measure, floor := watson6CGAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, watson6CGAnalyticLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func watson6CGAnalyticMinimize(x0 [6]float64, lim Watson6CGAnalyticLimits) watso
 			if rises >= 8 {
 				return best.ending(Watson6CGAnalyticDiverged, out.iterations, out.evaluations)
 			}
+			watson6CGAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(Watson6CGAnalyticOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		watson6CGAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := watson6CGAnalyticDot(&g, &d)
 		if !(now < 0) || !watson6CGAnalyticFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			watson6CGAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = watson6CGAnalyticDot(&g, &d)
 		}
 		first := float64(watson6CGAnalyticStepInitial)
@@ -267,7 +271,7 @@ func watson6CGAnalyticMinimize(x0 [6]float64, lim Watson6CGAnalyticLimits) watso
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := watson6CGAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := watson6CGAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := watson6CGAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case watson6CGAnalyticSearchOutOfBudget:
@@ -303,8 +307,7 @@ func watson6CGAnalyticMinimize(x0 [6]float64, lim Watson6CGAnalyticLimits) watso
 				}
 				return best.ending(Watson6CGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			watson6CGAnalyticDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += watson6CGAnalyticDerivativeCost
+			out.evaluations += watson6CGAnalyticDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		watson6CGAnalyticDifference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o watson6CGAnalyticOutcome) ending(end Watson6CGAnalyticStatus, iterations
 	return o
 }
 
+// watson6CGAnalyticEnterBox: without bounds every start is inside.
+func watson6CGAnalyticEnterBox(x *[6]float64, b *watson6CGAnalyticBox) {}
+
 // watson6CGAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func watson6CGAnalyticFiniteVec(x *[6]float64) bool {
 	return true
 }
 
-// watson6CGAnalyticDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// watson6CGAnalyticDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type watson6CGAnalyticDifferences struct {
 	ratio     [6]float64
 	curvature [6]float64
 	second    [6]float64 // |f″| along e_i, for the rounding floor of a stall (see watson6CGAnalyticRoundingFloor)
+	bounds    watson6CGAnalyticBox
 }
 
 // watson6CGAnalyticCalibrate: an analytic gradient needs no intervals.
@@ -384,8 +392,9 @@ func watson6CGAnalyticCalibrate(x *[6]float64, fx float64, diffs *watson6CGAnaly
 }
 
 // watson6CGAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func watson6CGAnalyticDerivative(x *[6]float64, fx float64, g *[6]float64, diffs *watson6CGAnalyticDifferences) {
+func watson6CGAnalyticDerivative(x *[6]float64, fx float64, g *[6]float64, diffs *watson6CGAnalyticDifferences) int {
 	Watson6Grad(x, g)
+	return 0
 }
 
 // watson6CGAnalyticDirection is nonlinear conjugate gradients with the Polak–Ribière
@@ -517,13 +526,13 @@ func watson6CGAnalyticConfirmGradient(x *[6]float64, fx float64, g, e *[6]float6
 		wide.ratio[i] *= 2
 	}
 	var doubled [6]float64
-	watson6CGAnalyticDerivative(x, fx, g, diffs)
-	watson6CGAnalyticDerivative(x, fx, &doubled, &wide)
+	calls += watson6CGAnalyticDerivative(x, fx, g, diffs)
+	calls += watson6CGAnalyticDerivative(x, fx, &doubled, &wide)
 	watson6CGAnalyticGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * watson6CGAnalyticAbs(g[i]-doubled[i])
 	}
-	return calls + 2*watson6CGAnalyticDerivativeCost, true
+	return calls, true
 }
 
 // watson6CGAnalyticGradientError: the analytic gradient is taken as exact; its error is
@@ -565,23 +574,70 @@ func watson6CGAnalyticDiagonalCurvature(x, g *[6]float64, diffs *watson6CGAnalyt
 	var moved [6]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := watson6CGAnalyticProbeStep(xi, watson6CGAnalyticSquareRoot(watson6CGAnalyticUnitRoundoff)*watson6CGAnalyticLarger(1, watson6CGAnalyticAbs(xi)))
-		probe[i] = up
-		Watson6Grad(&probe, &moved)
-		h[i] = watson6CGAnalyticAbs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := watson6CGAnalyticCoordinateRange(i, diffs)
+		up, delta := watson6CGAnalyticProbeStep(xi, watson6CGAnalyticOneSide(xi, watson6CGAnalyticSquareRoot(watson6CGAnalyticUnitRoundoff)*watson6CGAnalyticLarger(1, watson6CGAnalyticAbs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			Watson6Grad(&probe, &moved)
+			h[i] = watson6CGAnalyticAbs(moved[i]-g[i]) / watson6CGAnalyticAbs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// watson6CGAnalyticProbeStep returns x_i moved by h, and the step actually representable.
-func watson6CGAnalyticProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// watson6CGAnalyticCoordinateRange: without bounds any probe is allowed.
+func watson6CGAnalyticCoordinateRange(i int, diffs *watson6CGAnalyticDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// watson6CGAnalyticProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func watson6CGAnalyticProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := watson6CGAnalyticClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// watson6CGAnalyticClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func watson6CGAnalyticClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// watson6CGAnalyticOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func watson6CGAnalyticOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // watson6CGAnalyticSquareRoot returns √v.
 func watson6CGAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// watson6CGAnalyticStationarity measures the gradient itself.
+func watson6CGAnalyticStationarity(g, e, x *[6]float64, fx float64, b *watson6CGAnalyticBox) (measure, floor float64) {
+	return watson6CGAnalyticGradientMeasure(g, e, x, fx)
 }
 
 // watson6CGAnalyticGradientMeasure is the scale-free measure
@@ -617,6 +673,14 @@ func watson6CGAnalyticStepWithin(s, x *[6]float64, tol float64) bool {
 	return true
 }
 
+// watson6CGAnalyticCurvaturePair: without bounds the pair is used as it is.
+func watson6CGAnalyticCurvaturePair(s, y, x *[6]float64, b *watson6CGAnalyticBox) {}
+
+// watson6CGAnalyticSearchDirection is the direction's own.
+func watson6CGAnalyticSearchDirection(dir *watson6CGAnalyticDirection, x, g, d *[6]float64, b *watson6CGAnalyticBox) {
+	dir.compute(g, d)
+}
+
 // watson6CGAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func watson6CGAnalyticTinyStep(x, d *[6]float64, tol float64) float64 {
@@ -644,7 +708,10 @@ func watson6CGAnalyticTinyStep(x, d *[6]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (watson6CGAnalyticStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -653,13 +720,17 @@ func watson6CGAnalyticTinyStep(x, d *[6]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func watson6CGAnalyticLineSearch(x *[6]float64, fx float64, d *[6]float64, slope, first, tiny float64, budget int, xt, gt *[6]float64, diffs *watson6CGAnalyticDifferences) watson6CGAnalyticLineResult {
+func watson6CGAnalyticLineSearch(x *[6]float64, fx float64, g, d *[6]float64, slope, first, tiny float64, budget int, xt, gt *[6]float64, diffs *watson6CGAnalyticDifferences) watson6CGAnalyticLineResult {
 	low := watson6CGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high watson6CGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [6]float64                                                 // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend watson6CGAnalyticRiseTrend // of the trials failing sufficient decrease
+	var trend watson6CGAnalyticRiseTrend                         // of the trials failing sufficient decrease
+	limit := watson6CGAnalyticStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < watson6CGAnalyticStepTrials; trial++ {
 		if bracketed && watson6CGAnalyticAbs(high.step-low.step) <= tiny {
@@ -669,12 +740,12 @@ func watson6CGAnalyticLineSearch(x *[6]float64, fx float64, d *[6]float64, slope
 			if low.step == 0 {
 				return watson6CGAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: watson6CGAnalyticTinyOrExhausted(watson6CGAnalyticFinite(high.value))}
 			}
-			return watson6CGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return watson6CGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return watson6CGAnalyticLineResult{calls: calls, end: watson6CGAnalyticSearchOutOfBudget}
 		}
-		watson6CGAnalyticMoveTo(xt, x, t, d)
+		watson6CGAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := watson6CGAnalyticLinePoint{step: t, value: Watson6(xt)}
 		calls++
 		previous := low
@@ -685,8 +756,7 @@ func watson6CGAnalyticLineSearch(x *[6]float64, fx float64, d *[6]float64, slope
 			if calls+watson6CGAnalyticDerivativeCost > budget {
 				return watson6CGAnalyticLineResult{calls: calls, end: watson6CGAnalyticSearchOutOfBudget}
 			}
-			watson6CGAnalyticDerivative(xt, current.value, gt, diffs)
-			calls += watson6CGAnalyticDerivativeCost
+			calls += watson6CGAnalyticDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = watson6CGAnalyticDot(gt, d), true
 			switch {
 			case !watson6CGAnalyticFinite(current.slope):
@@ -697,18 +767,22 @@ func watson6CGAnalyticLineSearch(x *[6]float64, fx float64, d *[6]float64, slope
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return watson6CGAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: watson6CGAnalyticSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = watson6CGAnalyticZoomTrial(&low, &high)
-		} else {
-			t = watson6CGAnalyticExpandTrial(&previous, &current)
+		} else if t = watson6CGAnalyticExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return watson6CGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return watson6CGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return watson6CGAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: watson6CGAnalyticSearchExhausted}
 }
@@ -795,6 +869,11 @@ func watson6CGAnalyticFaithfulStep(x, xt, d *[6]float64, t float64) bool {
 	return true
 }
 
+// watson6CGAnalyticStepCap: without bounds a step may be as long as the search wants.
+func watson6CGAnalyticStepCap(x, d *[6]float64, tiny float64, b *watson6CGAnalyticBox) float64 {
+	return math.Inf(1)
+}
+
 // watson6CGAnalyticTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -819,10 +898,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func watson6CGAnalyticAcceptLow(x, d *[6]float64, low *watson6CGAnalyticLinePoint, lowGradient *[6]float64, calls int, xt, gt *[6]float64) watson6CGAnalyticLineResult {
-	watson6CGAnalyticMoveTo(xt, x, low.step, d)
+func watson6CGAnalyticAcceptLow(x, d *[6]float64, low *watson6CGAnalyticLinePoint, lowGradient *[6]float64, calls int, xt, gt *[6]float64, diffs *watson6CGAnalyticDifferences) watson6CGAnalyticLineResult {
+	watson6CGAnalyticTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return watson6CGAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: watson6CGAnalyticSearchAccepted}
+}
+
+// watson6CGAnalyticTrialPoint is x + t·d.
+func watson6CGAnalyticTrialPoint(out, x *[6]float64, t float64, d *[6]float64, b *watson6CGAnalyticBox) {
+	watson6CGAnalyticMoveTo(out, x, t, d)
 }
 
 // watson6CGAnalyticMoveTo sets out = x + t·d.
@@ -877,21 +961,6 @@ func watson6CGAnalyticModelMinimizer(a, b *watson6CGAnalyticLinePoint) (t float6
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, watson6CGAnalyticFinite(t)
-}
-
-// watson6CGAnalyticClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func watson6CGAnalyticClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // watson6CGAnalyticExpandTrial picks a larger trial after current met sufficient decrease

@@ -88,6 +88,9 @@ func Watson6LBFGSAnalyticDefaultLimits() Watson6LBFGSAnalyticLimits {
 	}
 }
 
+// watson6LBFGSAnalyticBox is empty: mgh.toml sets no bounds on Watson6LBFGSAnalytic.
+type watson6LBFGSAnalyticBox struct{}
+
 // Watson6LBFGSAnalytic minimizes Watson6 from x0, as mgh.toml specifies.
 //
 // Direction lbfgs: limited-memory BFGS: the last `memory` pairs, two-loop recursion (2·memory·dim numbers).
@@ -105,7 +108,7 @@ func Watson6LBFGSAnalytic(x0 [6]float64) Watson6LBFGSAnalyticResult {
 
 // Watson6LBFGSAnalyticWithLimits is Watson6LBFGSAnalytic with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func Watson6LBFGSAnalyticWithLimits(x0 [6]float64, limits Watson6LBFGSAnalyticLimits) Watson6LBFGSAnalyticResult {
-	out := watson6LBFGSAnalyticMinimize(x0, limits)
+	out := watson6LBFGSAnalyticMinimize(x0, limits, watson6LBFGSAnalyticBox{})
 	return Watson6LBFGSAnalyticResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -159,27 +162,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func watson6LBFGSAnalyticMinimize(x0 [6]float64, lim Watson6LBFGSAnalyticLimits) watson6LBFGSAnalyticOutcome {
-	out := watson6LBFGSAnalyticOutcome{x: x0, status: Watson6LBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
+func watson6LBFGSAnalyticMinimize(x0 [6]float64, lim Watson6LBFGSAnalyticLimits, bounds watson6LBFGSAnalyticBox) watson6LBFGSAnalyticOutcome {
+	x := x0
+	watson6LBFGSAnalyticEnterBox(&x, &bounds)
+	out := watson6LBFGSAnalyticOutcome{x: x, status: Watson6LBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := Watson6(&x)
 	out.f, out.evaluations = fx, 1
 	if !watson6LBFGSAnalyticFinite(fx) || !watson6LBFGSAnalyticFiniteVec(&x) {
 		out.status = Watson6LBFGSAnalyticNonFiniteStart
 		return out
 	}
-	var diffs watson6LBFGSAnalyticDifferences
+	diffs := watson6LBFGSAnalyticDifferences{bounds: bounds}
 	calls, ok := watson6LBFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+watson6LBFGSAnalyticDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [6]float64
-	watson6LBFGSAnalyticDerivative(&x, fx, &g, &diffs)
-	out.evaluations += watson6LBFGSAnalyticDerivativeCost
+	out.evaluations += watson6LBFGSAnalyticDerivative(&x, fx, &g, &diffs)
 
 	if !watson6LBFGSAnalyticFiniteVec(&g) {
 		out.status = Watson6LBFGSAnalyticNonFiniteGradient
@@ -212,7 +215,7 @@ func watson6LBFGSAnalyticMinimize(x0 [6]float64, lim Watson6LBFGSAnalyticLimits)
 		case !confirmed:
 			watson6LBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := watson6LBFGSAnalyticGradientMeasure(&g, &e, &x, fx)
+		measure, floor := watson6LBFGSAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, watson6LBFGSAnalyticLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -251,16 +254,17 @@ func watson6LBFGSAnalyticMinimize(x0 [6]float64, lim Watson6LBFGSAnalyticLimits)
 			if rises >= 8 {
 				return best.ending(Watson6LBFGSAnalyticDiverged, out.iterations, out.evaluations)
 			}
+			watson6LBFGSAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(Watson6LBFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		watson6LBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := watson6LBFGSAnalyticDot(&g, &d)
 		if !(now < 0) || !watson6LBFGSAnalyticFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			watson6LBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = watson6LBFGSAnalyticDot(&g, &d)
 		}
 		first := float64(watson6LBFGSAnalyticStepInitial)
@@ -268,7 +272,7 @@ func watson6LBFGSAnalyticMinimize(x0 [6]float64, lim Watson6LBFGSAnalyticLimits)
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := watson6LBFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := watson6LBFGSAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := watson6LBFGSAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case watson6LBFGSAnalyticSearchOutOfBudget:
@@ -304,8 +308,7 @@ func watson6LBFGSAnalyticMinimize(x0 [6]float64, lim Watson6LBFGSAnalyticLimits)
 				}
 				return best.ending(Watson6LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			watson6LBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += watson6LBFGSAnalyticDerivativeCost
+			out.evaluations += watson6LBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		watson6LBFGSAnalyticDifference(&s, &xt, &x)
@@ -346,6 +349,9 @@ func (o watson6LBFGSAnalyticOutcome) ending(end Watson6LBFGSAnalyticStatus, iter
 	return o
 }
 
+// watson6LBFGSAnalyticEnterBox: without bounds every start is inside.
+func watson6LBFGSAnalyticEnterBox(x *[6]float64, b *watson6LBFGSAnalyticBox) {}
+
 // watson6LBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -368,15 +374,17 @@ func watson6LBFGSAnalyticFiniteVec(x *[6]float64) bool {
 	return true
 }
 
-// watson6LBFGSAnalyticDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// watson6LBFGSAnalyticDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type watson6LBFGSAnalyticDifferences struct {
 	ratio     [6]float64
 	curvature [6]float64
 	second    [6]float64 // |f″| along e_i, for the rounding floor of a stall (see watson6LBFGSAnalyticRoundingFloor)
+	bounds    watson6LBFGSAnalyticBox
 }
 
 // watson6LBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
@@ -385,8 +393,9 @@ func watson6LBFGSAnalyticCalibrate(x *[6]float64, fx float64, diffs *watson6LBFG
 }
 
 // watson6LBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func watson6LBFGSAnalyticDerivative(x *[6]float64, fx float64, g *[6]float64, diffs *watson6LBFGSAnalyticDifferences) {
+func watson6LBFGSAnalyticDerivative(x *[6]float64, fx float64, g *[6]float64, diffs *watson6LBFGSAnalyticDifferences) int {
 	Watson6Grad(x, g)
+	return 0
 }
 
 // watson6LBFGSAnalyticDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
@@ -551,13 +560,13 @@ func watson6LBFGSAnalyticConfirmGradient(x *[6]float64, fx float64, g, e *[6]flo
 		wide.ratio[i] *= 2
 	}
 	var doubled [6]float64
-	watson6LBFGSAnalyticDerivative(x, fx, g, diffs)
-	watson6LBFGSAnalyticDerivative(x, fx, &doubled, &wide)
+	calls += watson6LBFGSAnalyticDerivative(x, fx, g, diffs)
+	calls += watson6LBFGSAnalyticDerivative(x, fx, &doubled, &wide)
 	watson6LBFGSAnalyticGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * watson6LBFGSAnalyticAbs(g[i]-doubled[i])
 	}
-	return calls + 2*watson6LBFGSAnalyticDerivativeCost, true
+	return calls, true
 }
 
 // watson6LBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
@@ -599,18 +608,60 @@ func watson6LBFGSAnalyticDiagonalCurvature(x, g *[6]float64, diffs *watson6LBFGS
 	var moved [6]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := watson6LBFGSAnalyticProbeStep(xi, watson6LBFGSAnalyticSquareRoot(watson6LBFGSAnalyticUnitRoundoff)*watson6LBFGSAnalyticLarger(1, watson6LBFGSAnalyticAbs(xi)))
-		probe[i] = up
-		Watson6Grad(&probe, &moved)
-		h[i] = watson6LBFGSAnalyticAbs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := watson6LBFGSAnalyticCoordinateRange(i, diffs)
+		up, delta := watson6LBFGSAnalyticProbeStep(xi, watson6LBFGSAnalyticOneSide(xi, watson6LBFGSAnalyticSquareRoot(watson6LBFGSAnalyticUnitRoundoff)*watson6LBFGSAnalyticLarger(1, watson6LBFGSAnalyticAbs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			Watson6Grad(&probe, &moved)
+			h[i] = watson6LBFGSAnalyticAbs(moved[i]-g[i]) / watson6LBFGSAnalyticAbs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// watson6LBFGSAnalyticProbeStep returns x_i moved by h, and the step actually representable.
-func watson6LBFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// watson6LBFGSAnalyticCoordinateRange: without bounds any probe is allowed.
+func watson6LBFGSAnalyticCoordinateRange(i int, diffs *watson6LBFGSAnalyticDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// watson6LBFGSAnalyticProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func watson6LBFGSAnalyticProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := watson6LBFGSAnalyticClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// watson6LBFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func watson6LBFGSAnalyticClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// watson6LBFGSAnalyticOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func watson6LBFGSAnalyticOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // watson6LBFGSAnalyticSquareRoot returns √v.
@@ -626,6 +677,11 @@ func watson6LBFGSAnalyticLarger(a, b float64) float64 {
 		return a
 	}
 	return b
+}
+
+// watson6LBFGSAnalyticStationarity measures the gradient itself.
+func watson6LBFGSAnalyticStationarity(g, e, x *[6]float64, fx float64, b *watson6LBFGSAnalyticBox) (measure, floor float64) {
+	return watson6LBFGSAnalyticGradientMeasure(g, e, x, fx)
 }
 
 // watson6LBFGSAnalyticGradientMeasure is the scale-free measure
@@ -661,6 +717,14 @@ func watson6LBFGSAnalyticStepWithin(s, x *[6]float64, tol float64) bool {
 	return true
 }
 
+// watson6LBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
+func watson6LBFGSAnalyticCurvaturePair(s, y, x *[6]float64, b *watson6LBFGSAnalyticBox) {}
+
+// watson6LBFGSAnalyticSearchDirection is the direction's own.
+func watson6LBFGSAnalyticSearchDirection(dir *watson6LBFGSAnalyticDirection, x, g, d *[6]float64, b *watson6LBFGSAnalyticBox) {
+	dir.compute(g, d)
+}
+
 // watson6LBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func watson6LBFGSAnalyticTinyStep(x, d *[6]float64, tol float64) float64 {
@@ -688,7 +752,10 @@ func watson6LBFGSAnalyticTinyStep(x, d *[6]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (watson6LBFGSAnalyticStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -697,13 +764,17 @@ func watson6LBFGSAnalyticTinyStep(x, d *[6]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func watson6LBFGSAnalyticLineSearch(x *[6]float64, fx float64, d *[6]float64, slope, first, tiny float64, budget int, xt, gt *[6]float64, diffs *watson6LBFGSAnalyticDifferences) watson6LBFGSAnalyticLineResult {
+func watson6LBFGSAnalyticLineSearch(x *[6]float64, fx float64, g, d *[6]float64, slope, first, tiny float64, budget int, xt, gt *[6]float64, diffs *watson6LBFGSAnalyticDifferences) watson6LBFGSAnalyticLineResult {
 	low := watson6LBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high watson6LBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [6]float64                                                    // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend watson6LBFGSAnalyticRiseTrend // of the trials failing sufficient decrease
+	var trend watson6LBFGSAnalyticRiseTrend                         // of the trials failing sufficient decrease
+	limit := watson6LBFGSAnalyticStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < watson6LBFGSAnalyticStepTrials; trial++ {
 		if bracketed && watson6LBFGSAnalyticAbs(high.step-low.step) <= tiny {
@@ -713,12 +784,12 @@ func watson6LBFGSAnalyticLineSearch(x *[6]float64, fx float64, d *[6]float64, sl
 			if low.step == 0 {
 				return watson6LBFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: watson6LBFGSAnalyticTinyOrExhausted(watson6LBFGSAnalyticFinite(high.value))}
 			}
-			return watson6LBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return watson6LBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return watson6LBFGSAnalyticLineResult{calls: calls, end: watson6LBFGSAnalyticSearchOutOfBudget}
 		}
-		watson6LBFGSAnalyticMoveTo(xt, x, t, d)
+		watson6LBFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := watson6LBFGSAnalyticLinePoint{step: t, value: Watson6(xt)}
 		calls++
 		previous := low
@@ -729,8 +800,7 @@ func watson6LBFGSAnalyticLineSearch(x *[6]float64, fx float64, d *[6]float64, sl
 			if calls+watson6LBFGSAnalyticDerivativeCost > budget {
 				return watson6LBFGSAnalyticLineResult{calls: calls, end: watson6LBFGSAnalyticSearchOutOfBudget}
 			}
-			watson6LBFGSAnalyticDerivative(xt, current.value, gt, diffs)
-			calls += watson6LBFGSAnalyticDerivativeCost
+			calls += watson6LBFGSAnalyticDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = watson6LBFGSAnalyticDot(gt, d), true
 			switch {
 			case !watson6LBFGSAnalyticFinite(current.slope):
@@ -741,18 +811,22 @@ func watson6LBFGSAnalyticLineSearch(x *[6]float64, fx float64, d *[6]float64, sl
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return watson6LBFGSAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: watson6LBFGSAnalyticSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = watson6LBFGSAnalyticZoomTrial(&low, &high)
-		} else {
-			t = watson6LBFGSAnalyticExpandTrial(&previous, &current)
+		} else if t = watson6LBFGSAnalyticExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return watson6LBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return watson6LBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return watson6LBFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: watson6LBFGSAnalyticSearchExhausted}
 }
@@ -839,6 +913,11 @@ func watson6LBFGSAnalyticFaithfulStep(x, xt, d *[6]float64, t float64) bool {
 	return true
 }
 
+// watson6LBFGSAnalyticStepCap: without bounds a step may be as long as the search wants.
+func watson6LBFGSAnalyticStepCap(x, d *[6]float64, tiny float64, b *watson6LBFGSAnalyticBox) float64 {
+	return math.Inf(1)
+}
+
 // watson6LBFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -863,10 +942,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func watson6LBFGSAnalyticAcceptLow(x, d *[6]float64, low *watson6LBFGSAnalyticLinePoint, lowGradient *[6]float64, calls int, xt, gt *[6]float64) watson6LBFGSAnalyticLineResult {
-	watson6LBFGSAnalyticMoveTo(xt, x, low.step, d)
+func watson6LBFGSAnalyticAcceptLow(x, d *[6]float64, low *watson6LBFGSAnalyticLinePoint, lowGradient *[6]float64, calls int, xt, gt *[6]float64, diffs *watson6LBFGSAnalyticDifferences) watson6LBFGSAnalyticLineResult {
+	watson6LBFGSAnalyticTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return watson6LBFGSAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: watson6LBFGSAnalyticSearchAccepted}
+}
+
+// watson6LBFGSAnalyticTrialPoint is x + t·d.
+func watson6LBFGSAnalyticTrialPoint(out, x *[6]float64, t float64, d *[6]float64, b *watson6LBFGSAnalyticBox) {
+	watson6LBFGSAnalyticMoveTo(out, x, t, d)
 }
 
 // watson6LBFGSAnalyticMoveTo sets out = x + t·d.
@@ -921,21 +1005,6 @@ func watson6LBFGSAnalyticModelMinimizer(a, b *watson6LBFGSAnalyticLinePoint) (t 
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, watson6LBFGSAnalyticFinite(t)
-}
-
-// watson6LBFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func watson6LBFGSAnalyticClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // watson6LBFGSAnalyticExpandTrial picks a larger trial after current met sufficient decrease

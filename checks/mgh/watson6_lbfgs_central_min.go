@@ -88,6 +88,9 @@ func Watson6LBFGSCentralDefaultLimits() Watson6LBFGSCentralLimits {
 	}
 }
 
+// watson6LBFGSCentralBox is empty: mgh.toml sets no bounds on Watson6LBFGSCentral.
+type watson6LBFGSCentralBox struct{}
+
 // Watson6LBFGSCentral minimizes Watson6 from x0, as mgh.toml specifies.
 //
 // Direction lbfgs: limited-memory BFGS: the last `memory` pairs, two-loop recursion (2·memory·dim numbers).
@@ -105,7 +108,7 @@ func Watson6LBFGSCentral(x0 [6]float64) Watson6LBFGSCentralResult {
 
 // Watson6LBFGSCentralWithLimits is Watson6LBFGSCentral with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func Watson6LBFGSCentralWithLimits(x0 [6]float64, limits Watson6LBFGSCentralLimits) Watson6LBFGSCentralResult {
-	out := watson6LBFGSCentralMinimize(x0, limits)
+	out := watson6LBFGSCentralMinimize(x0, limits, watson6LBFGSCentralBox{})
 	return Watson6LBFGSCentralResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -159,27 +162,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func watson6LBFGSCentralMinimize(x0 [6]float64, lim Watson6LBFGSCentralLimits) watson6LBFGSCentralOutcome {
-	out := watson6LBFGSCentralOutcome{x: x0, status: Watson6LBFGSCentralOutOfEvaluations, gradient: math.NaN()}
+func watson6LBFGSCentralMinimize(x0 [6]float64, lim Watson6LBFGSCentralLimits, bounds watson6LBFGSCentralBox) watson6LBFGSCentralOutcome {
+	x := x0
+	watson6LBFGSCentralEnterBox(&x, &bounds)
+	out := watson6LBFGSCentralOutcome{x: x, status: Watson6LBFGSCentralOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := Watson6(&x)
 	out.f, out.evaluations = fx, 1
 	if !watson6LBFGSCentralFinite(fx) || !watson6LBFGSCentralFiniteVec(&x) {
 		out.status = Watson6LBFGSCentralNonFiniteStart
 		return out
 	}
-	var diffs watson6LBFGSCentralDifferences
+	diffs := watson6LBFGSCentralDifferences{bounds: bounds}
 	calls, ok := watson6LBFGSCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+watson6LBFGSCentralDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [6]float64
-	watson6LBFGSCentralDerivative(&x, fx, &g, &diffs)
-	out.evaluations += watson6LBFGSCentralDerivativeCost
+	out.evaluations += watson6LBFGSCentralDerivative(&x, fx, &g, &diffs)
 
 	if !watson6LBFGSCentralFiniteVec(&g) {
 		out.status = Watson6LBFGSCentralNonFiniteGradient
@@ -212,7 +215,7 @@ func watson6LBFGSCentralMinimize(x0 [6]float64, lim Watson6LBFGSCentralLimits) w
 		case !confirmed:
 			watson6LBFGSCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := watson6LBFGSCentralGradientMeasure(&g, &e, &x, fx)
+		measure, floor := watson6LBFGSCentralStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, watson6LBFGSCentralLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -251,16 +254,17 @@ func watson6LBFGSCentralMinimize(x0 [6]float64, lim Watson6LBFGSCentralLimits) w
 			if rises >= 8 {
 				return best.ending(Watson6LBFGSCentralDiverged, out.iterations, out.evaluations)
 			}
+			watson6LBFGSCentralCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(Watson6LBFGSCentralOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		watson6LBFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := watson6LBFGSCentralDot(&g, &d)
 		if !(now < 0) || !watson6LBFGSCentralFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			watson6LBFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = watson6LBFGSCentralDot(&g, &d)
 		}
 		first := float64(watson6LBFGSCentralStepInitial)
@@ -268,7 +272,7 @@ func watson6LBFGSCentralMinimize(x0 [6]float64, lim Watson6LBFGSCentralLimits) w
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := watson6LBFGSCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := watson6LBFGSCentralLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := watson6LBFGSCentralLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case watson6LBFGSCentralSearchOutOfBudget:
@@ -304,8 +308,7 @@ func watson6LBFGSCentralMinimize(x0 [6]float64, lim Watson6LBFGSCentralLimits) w
 				}
 				return best.ending(Watson6LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			watson6LBFGSCentralDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += watson6LBFGSCentralDerivativeCost
+			out.evaluations += watson6LBFGSCentralDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		watson6LBFGSCentralDifference(&s, &xt, &x)
@@ -346,6 +349,9 @@ func (o watson6LBFGSCentralOutcome) ending(end Watson6LBFGSCentralStatus, iterat
 	return o
 }
 
+// watson6LBFGSCentralEnterBox: without bounds every start is inside.
+func watson6LBFGSCentralEnterBox(x *[6]float64, b *watson6LBFGSCentralBox) {}
+
 // watson6LBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -368,15 +374,17 @@ func watson6LBFGSCentralFiniteVec(x *[6]float64) bool {
 	return true
 }
 
-// watson6LBFGSCentralDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// watson6LBFGSCentralDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type watson6LBFGSCentralDifferences struct {
 	ratio     [6]float64
 	curvature [6]float64
 	second    [6]float64 // |f″| along e_i, for the rounding floor of a stall (see watson6LBFGSCentralRoundingFloor)
+	bounds    watson6LBFGSCentralBox
 }
 
 // watson6LBFGSCentralCalibrate chooses each central-difference interval from the
@@ -398,19 +406,45 @@ func watson6LBFGSCentralCalibrate(x *[6]float64, fx float64, diffs *watson6LBFGS
 	var slope [6]float64
 	scale := watson6LBFGSCentralAbs(fx)
 	quarter := watson6LBFGSCentralSquareRoot(watson6LBFGSCentralSquareRoot(watson6LBFGSCentralUnitRoundoff)) // u^(1/4)
+	calls := 0
 	for i := range probe {
-		if 4*(i+1) > budget {
-			return 4 * i, false
+		if calls+4 > budget {
+			return calls, false
 		}
 		xi := probe[i]
 		bar := quarter * watson6LBFGSCentralLarger(1, watson6LBFGSCentralAbs(xi))
+		lower, upper := watson6LBFGSCentralCoordinateRange(i, diffs)
+		if xi+2*bar > upper || xi-2*bar < lower {
+			// At a bound: three probes on the side with room, at h, 2h
+			// and 3h, for f‴ ≈ (f(3h) − 3f(2h) + 3f(h) − f(0))/h³ (the
+			// third forward difference).
+			h := watson6LBFGSCentralOneSide(xi, bar, 3, lower, upper)
+			if h == 0 {
+				continue // fixed by equal bounds
+			}
+			var f [3]float64
+			for k := range f {
+				probe[i], _ = watson6LBFGSCentralProbeStep(xi, float64(k+1)*h, lower, upper)
+				f[k] = Watson6(&probe)
+				scale = watson6LBFGSCentralLarger(scale, watson6LBFGSCentralMagnitude(f[k]))
+			}
+			probe[i] = xi
+			calls += 3
+			if watson6LBFGSCentralFinite(f[0]) && watson6LBFGSCentralFinite(f[1]) && watson6LBFGSCentralFinite(f[2]) {
+				diffs.curvature[i] = watson6LBFGSCentralAbs(f[2]-3*f[1]+3*f[0]-fx) / watson6LBFGSCentralAbs(h*h*h)
+				diffs.second[i] = watson6LBFGSCentralAbs(fx-2*f[0]+f[1]) / (h * h)
+				slope[i] = (-3*fx + 4*f[0] - f[1]) / (2 * h)
+			}
+			continue
+		}
 		var f [4]float64
 		for k, m := range [4]float64{2, 1, -1, -2} {
-			probe[i], _ = watson6LBFGSCentralProbeStep(xi, m*bar)
+			probe[i], _ = watson6LBFGSCentralProbeStep(xi, m*bar, lower, upper)
 			f[k] = Watson6(&probe)
 			scale = watson6LBFGSCentralLarger(scale, watson6LBFGSCentralMagnitude(f[k]))
 		}
 		probe[i] = xi
+		calls += 4
 		if watson6LBFGSCentralFinite(f[0]) && watson6LBFGSCentralFinite(f[1]) && watson6LBFGSCentralFinite(f[2]) && watson6LBFGSCentralFinite(f[3]) {
 			diffs.curvature[i] = watson6LBFGSCentralAbs(f[0]-2*f[1]+2*f[2]-f[3]) / (2 * bar * bar * bar)
 			diffs.second[i] = watson6LBFGSCentralAbs(f[1]-2*fx+f[2]) / (bar * bar)
@@ -429,7 +463,7 @@ func watson6LBFGSCentralCalibrate(x *[6]float64, fx float64, diffs *watson6LBFGS
 		diffs.ratio[i] = watson6LBFGSCentralClampBetween(h, 64*watson6LBFGSCentralUnitRoundoff*s, bar) / s
 		diffs.curvature[i] = third
 	}
-	return 4 * len(probe), true
+	return calls, true
 }
 
 // watson6LBFGSCentralAbs returns |v|.
@@ -455,10 +489,48 @@ func watson6LBFGSCentralLarger(a, b float64) float64 {
 	return b
 }
 
-// watson6LBFGSCentralProbeStep returns x_i moved by h, and the step actually representable.
-func watson6LBFGSCentralProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// watson6LBFGSCentralCoordinateRange: without bounds any probe is allowed.
+func watson6LBFGSCentralCoordinateRange(i int, diffs *watson6LBFGSCentralDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// watson6LBFGSCentralOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func watson6LBFGSCentralOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
+}
+
+// watson6LBFGSCentralProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func watson6LBFGSCentralProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := watson6LBFGSCentralClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// watson6LBFGSCentralClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func watson6LBFGSCentralClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
 }
 
 // watson6LBFGSCentralMagnitude is |v| for a finite v and 0 otherwise: a probe that fell
@@ -494,42 +566,85 @@ func watson6LBFGSCentralCubeRoot(v float64) float64 {
 	return math.Cbrt(v)
 }
 
-// watson6LBFGSCentralClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func watson6LBFGSCentralClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
-}
-
 // watson6LBFGSCentralDerivative approximates the gradient by central differences,
 //
 //	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),
 //
 // with the intervals watson6LBFGSCentralCalibrate chose, h_i = ratio_i·max(1, |x_i|)
-// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls; fx is
-// not needed.
-func watson6LBFGSCentralDerivative(x *[6]float64, fx float64, g *[6]float64, diffs *watson6LBFGSCentralDifferences) {
+// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls. Where
+// a bound leaves no room on one side, the three-point endpoint formula on
+// the other side takes its place at the same cost (see parabola); a
+// variable fixed by equal bounds costs nothing and gets 0.
+func watson6LBFGSCentralDerivative(x *[6]float64, fx float64, g *[6]float64, diffs *watson6LBFGSCentralDifferences) int {
 	probe := *x
+	calls := 0
 	for i := range probe {
 		xi := probe[i]
-		h := diffs.ratio[i] * watson6LBFGSCentralLarger(1, watson6LBFGSCentralAbs(xi))
-		up, _ := watson6LBFGSCentralProbeStep(xi, h)
-		down, _ := watson6LBFGSCentralProbeStep(xi, -h)
-		probe[i] = up
-		fUp := Watson6(&probe)
-		probe[i] = down
-		fDown := Watson6(&probe)
-		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
-		probe[i] = xi
+		h, oneSided := watson6LBFGSCentralCentralInterval(x, i, diffs)
+		lower, upper := watson6LBFGSCentralCoordinateRange(i, diffs)
+		switch {
+		case h == 0:
+			g[i] = 0 // fixed by equal bounds
+			continue
+		case oneSided:
+			g[i], _, _ = watson6LBFGSCentralSidedProbes(&probe, i, fx, h, lower, upper) // the three-point endpoint formula
+		default:
+			up, _ := watson6LBFGSCentralProbeStep(xi, h, lower, upper)
+			down, _ := watson6LBFGSCentralProbeStep(xi, -h, lower, upper)
+			probe[i] = up
+			fUp := Watson6(&probe)
+			probe[i] = down
+			fDown := Watson6(&probe)
+			g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+			probe[i] = xi
+		}
+		calls += 2
 	}
+	return calls
+}
+
+// watson6LBFGSCentralCentralInterval is the interval of coordinate i at x, ratio_i·max(1,
+// |x_i|), and whether the box leaves room for probes on both sides; when
+// it does not, the interval is signed towards the side with room for
+// probes at h and 2h, and shortened where the box is narrower than that
+// (see watson6LBFGSCentralOneSide).
+func watson6LBFGSCentralCentralInterval(x *[6]float64, i int, diffs *watson6LBFGSCentralDifferences) (h float64, oneSided bool) {
+	lower, upper := watson6LBFGSCentralCoordinateRange(i, diffs)
+	h = diffs.ratio[i] * watson6LBFGSCentralLarger(1, watson6LBFGSCentralAbs(x[i]))
+	if x[i]+h <= upper && x[i]-h >= lower {
+		return h, false
+	}
+	return watson6LBFGSCentralOneSide(x[i], h, 2, lower, upper), true
+}
+
+// watson6LBFGSCentralSidedProbes evaluates f at x moved along coordinate i by h and by 2h,
+// kept within [lower, upper], and returns the slope and second derivative
+// of the parabola through them and (x, fx) (see parabola), and the larger
+// magnitude of the two values.
+func watson6LBFGSCentralSidedProbes(probe *[6]float64, i int, fx, h, lower, upper float64) (slope, second, size float64) {
+	xi := probe[i]
+	near, a := watson6LBFGSCentralProbeStep(xi, h, lower, upper)
+	far, b := watson6LBFGSCentralProbeStep(xi, 2*h, lower, upper)
+	probe[i] = near
+	fNear := Watson6(probe)
+	probe[i] = far
+	fFar := Watson6(probe)
+	probe[i] = xi
+	slope, second = watson6LBFGSCentralParabola(fx, a, fNear, b, fFar)
+	return slope, second, watson6LBFGSCentralLarger(watson6LBFGSCentralMagnitude(fNear), watson6LBFGSCentralMagnitude(fFar))
+}
+
+// watson6LBFGSCentralParabola returns the first and second derivatives at 0 of the parabola
+// through (0, f0), (a, fa) and (b, fb), for probes on one side of a bound.
+// With b = 2a they are the three-point endpoint formulas
+// f′ ≈ (−3f0 + 4fa − fb)/(2a), error a²|f‴|/3, and
+// f″ ≈ (f0 − 2fa + fb)/a² (Burden & Faires, Numerical Analysis, §4.1
+// and §4.1's second-derivative formulas, from memory); written for unequal
+// a and b, so that the representable steps can be used.
+func watson6LBFGSCentralParabola(f0, a, fa, b, fb float64) (slope, second float64) {
+	slope = -(a+b)/(a*b)*f0 + b/(a*(b-a))*fa - a/(b*(b-a))*fb
+	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
+	return slope, second
 }
 
 // watson6LBFGSCentralDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
@@ -694,13 +809,13 @@ func watson6LBFGSCentralConfirmGradient(x *[6]float64, fx float64, g, e *[6]floa
 		wide.ratio[i] *= 2
 	}
 	var doubled [6]float64
-	watson6LBFGSCentralDerivative(x, fx, g, diffs)
-	watson6LBFGSCentralDerivative(x, fx, &doubled, &wide)
+	calls += watson6LBFGSCentralDerivative(x, fx, g, diffs)
+	calls += watson6LBFGSCentralDerivative(x, fx, &doubled, &wide)
 	watson6LBFGSCentralGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * watson6LBFGSCentralAbs(g[i]-doubled[i])
 	}
-	return calls + 2*watson6LBFGSCentralDerivativeCost, true
+	return calls, true
 }
 
 // watson6LBFGSCentralGradientError bounds each central difference's error by twice its
@@ -710,8 +825,16 @@ func watson6LBFGSCentralConfirmGradient(x *[6]float64, fx float64, g, e *[6]floa
 func watson6LBFGSCentralGradientError(x *[6]float64, fx float64, g, e *[6]float64, diffs *watson6LBFGSCentralDifferences) {
 	noise := watson6LBFGSCentralNoiseLevel(x, fx, g)
 	for i := range e {
-		h := diffs.ratio[i] * watson6LBFGSCentralLarger(1, watson6LBFGSCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		h, oneSided := watson6LBFGSCentralCentralInterval(x, i, diffs)
+		h = watson6LBFGSCentralAbs(h)
+		switch {
+		case h == 0:
+			e[i] = 0 // fixed by equal bounds
+		case oneSided:
+			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+		default:
+			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		}
 	}
 }
 
@@ -733,6 +856,11 @@ func watson6LBFGSCentralRoundingFloor(x, g, e *[6]float64, diffs *watson6LBFGSCe
 // calibration, which watson6LBFGSCentralConfirmGradient has just made at x.
 func watson6LBFGSCentralDiagonalCurvature(x, g *[6]float64, diffs *watson6LBFGSCentralDifferences, h *[6]float64) {
 	*h = diffs.second
+}
+
+// watson6LBFGSCentralStationarity measures the gradient itself.
+func watson6LBFGSCentralStationarity(g, e, x *[6]float64, fx float64, b *watson6LBFGSCentralBox) (measure, floor float64) {
+	return watson6LBFGSCentralGradientMeasure(g, e, x, fx)
 }
 
 // watson6LBFGSCentralGradientMeasure is the scale-free measure
@@ -768,6 +896,14 @@ func watson6LBFGSCentralStepWithin(s, x *[6]float64, tol float64) bool {
 	return true
 }
 
+// watson6LBFGSCentralCurvaturePair: without bounds the pair is used as it is.
+func watson6LBFGSCentralCurvaturePair(s, y, x *[6]float64, b *watson6LBFGSCentralBox) {}
+
+// watson6LBFGSCentralSearchDirection is the direction's own.
+func watson6LBFGSCentralSearchDirection(dir *watson6LBFGSCentralDirection, x, g, d *[6]float64, b *watson6LBFGSCentralBox) {
+	dir.compute(g, d)
+}
+
 // watson6LBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func watson6LBFGSCentralTinyStep(x, d *[6]float64, tol float64) float64 {
@@ -795,7 +931,10 @@ func watson6LBFGSCentralTinyStep(x, d *[6]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (watson6LBFGSCentralStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -804,13 +943,17 @@ func watson6LBFGSCentralTinyStep(x, d *[6]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func watson6LBFGSCentralLineSearch(x *[6]float64, fx float64, d *[6]float64, slope, first, tiny float64, budget int, xt, gt *[6]float64, diffs *watson6LBFGSCentralDifferences) watson6LBFGSCentralLineResult {
+func watson6LBFGSCentralLineSearch(x *[6]float64, fx float64, g, d *[6]float64, slope, first, tiny float64, budget int, xt, gt *[6]float64, diffs *watson6LBFGSCentralDifferences) watson6LBFGSCentralLineResult {
 	low := watson6LBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high watson6LBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [6]float64                                                   // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend watson6LBFGSCentralRiseTrend // of the trials failing sufficient decrease
+	var trend watson6LBFGSCentralRiseTrend                         // of the trials failing sufficient decrease
+	limit := watson6LBFGSCentralStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < watson6LBFGSCentralStepTrials; trial++ {
 		if bracketed && watson6LBFGSCentralAbs(high.step-low.step) <= tiny {
@@ -820,12 +963,12 @@ func watson6LBFGSCentralLineSearch(x *[6]float64, fx float64, d *[6]float64, slo
 			if low.step == 0 {
 				return watson6LBFGSCentralLineResult{calls: calls, rising: trend.contradicts(), end: watson6LBFGSCentralTinyOrExhausted(watson6LBFGSCentralFinite(high.value))}
 			}
-			return watson6LBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return watson6LBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return watson6LBFGSCentralLineResult{calls: calls, end: watson6LBFGSCentralSearchOutOfBudget}
 		}
-		watson6LBFGSCentralMoveTo(xt, x, t, d)
+		watson6LBFGSCentralTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := watson6LBFGSCentralLinePoint{step: t, value: Watson6(xt)}
 		calls++
 		previous := low
@@ -836,8 +979,7 @@ func watson6LBFGSCentralLineSearch(x *[6]float64, fx float64, d *[6]float64, slo
 			if calls+watson6LBFGSCentralDerivativeCost > budget {
 				return watson6LBFGSCentralLineResult{calls: calls, end: watson6LBFGSCentralSearchOutOfBudget}
 			}
-			watson6LBFGSCentralDerivative(xt, current.value, gt, diffs)
-			calls += watson6LBFGSCentralDerivativeCost
+			calls += watson6LBFGSCentralDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = watson6LBFGSCentralDot(gt, d), true
 			switch {
 			case !watson6LBFGSCentralFinite(current.slope):
@@ -848,18 +990,22 @@ func watson6LBFGSCentralLineSearch(x *[6]float64, fx float64, d *[6]float64, slo
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return watson6LBFGSCentralLineResult{step: t, value: current.value, calls: calls, gradient: true, end: watson6LBFGSCentralSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = watson6LBFGSCentralZoomTrial(&low, &high)
-		} else {
-			t = watson6LBFGSCentralExpandTrial(&previous, &current)
+		} else if t = watson6LBFGSCentralExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return watson6LBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return watson6LBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return watson6LBFGSCentralLineResult{calls: calls, rising: trend.contradicts(), end: watson6LBFGSCentralSearchExhausted}
 }
@@ -946,6 +1092,11 @@ func watson6LBFGSCentralFaithfulStep(x, xt, d *[6]float64, t float64) bool {
 	return true
 }
 
+// watson6LBFGSCentralStepCap: without bounds a step may be as long as the search wants.
+func watson6LBFGSCentralStepCap(x, d *[6]float64, tiny float64, b *watson6LBFGSCentralBox) float64 {
+	return math.Inf(1)
+}
+
 // watson6LBFGSCentralTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -970,10 +1121,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func watson6LBFGSCentralAcceptLow(x, d *[6]float64, low *watson6LBFGSCentralLinePoint, lowGradient *[6]float64, calls int, xt, gt *[6]float64) watson6LBFGSCentralLineResult {
-	watson6LBFGSCentralMoveTo(xt, x, low.step, d)
+func watson6LBFGSCentralAcceptLow(x, d *[6]float64, low *watson6LBFGSCentralLinePoint, lowGradient *[6]float64, calls int, xt, gt *[6]float64, diffs *watson6LBFGSCentralDifferences) watson6LBFGSCentralLineResult {
+	watson6LBFGSCentralTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return watson6LBFGSCentralLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: watson6LBFGSCentralSearchAccepted}
+}
+
+// watson6LBFGSCentralTrialPoint is x + t·d.
+func watson6LBFGSCentralTrialPoint(out, x *[6]float64, t float64, d *[6]float64, b *watson6LBFGSCentralBox) {
+	watson6LBFGSCentralMoveTo(out, x, t, d)
 }
 
 // watson6LBFGSCentralMoveTo sets out = x + t·d.

@@ -88,6 +88,9 @@ func Watson9BFGSAnalyticDefaultLimits() Watson9BFGSAnalyticLimits {
 	}
 }
 
+// watson9BFGSAnalyticBox is empty: mgh.toml sets no bounds on Watson9BFGSAnalytic.
+type watson9BFGSAnalyticBox struct{}
+
 // Watson9BFGSAnalytic minimizes Watson9 from x0, as mgh.toml specifies.
 //
 // Direction bfgs: BFGS quasi-Newton with a dense inverse-Hessian approximation (dim² numbers).
@@ -105,7 +108,7 @@ func Watson9BFGSAnalytic(x0 [9]float64) Watson9BFGSAnalyticResult {
 
 // Watson9BFGSAnalyticWithLimits is Watson9BFGSAnalytic with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func Watson9BFGSAnalyticWithLimits(x0 [9]float64, limits Watson9BFGSAnalyticLimits) Watson9BFGSAnalyticResult {
-	out := watson9BFGSAnalyticMinimize(x0, limits)
+	out := watson9BFGSAnalyticMinimize(x0, limits, watson9BFGSAnalyticBox{})
 	return Watson9BFGSAnalyticResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func watson9BFGSAnalyticMinimize(x0 [9]float64, lim Watson9BFGSAnalyticLimits) watson9BFGSAnalyticOutcome {
-	out := watson9BFGSAnalyticOutcome{x: x0, status: Watson9BFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
+func watson9BFGSAnalyticMinimize(x0 [9]float64, lim Watson9BFGSAnalyticLimits, bounds watson9BFGSAnalyticBox) watson9BFGSAnalyticOutcome {
+	x := x0
+	watson9BFGSAnalyticEnterBox(&x, &bounds)
+	out := watson9BFGSAnalyticOutcome{x: x, status: Watson9BFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := Watson9(&x)
 	out.f, out.evaluations = fx, 1
 	if !watson9BFGSAnalyticFinite(fx) || !watson9BFGSAnalyticFiniteVec(&x) {
 		out.status = Watson9BFGSAnalyticNonFiniteStart
 		return out
 	}
-	var diffs watson9BFGSAnalyticDifferences
+	diffs := watson9BFGSAnalyticDifferences{bounds: bounds}
 	calls, ok := watson9BFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+watson9BFGSAnalyticDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [9]float64
-	watson9BFGSAnalyticDerivative(&x, fx, &g, &diffs)
-	out.evaluations += watson9BFGSAnalyticDerivativeCost
+	out.evaluations += watson9BFGSAnalyticDerivative(&x, fx, &g, &diffs)
 
 	if !watson9BFGSAnalyticFiniteVec(&g) {
 		out.status = Watson9BFGSAnalyticNonFiniteGradient
@@ -211,7 +214,7 @@ func watson9BFGSAnalyticMinimize(x0 [9]float64, lim Watson9BFGSAnalyticLimits) w
 		case !confirmed:
 			watson9BFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := watson9BFGSAnalyticGradientMeasure(&g, &e, &x, fx)
+		measure, floor := watson9BFGSAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, watson9BFGSAnalyticLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func watson9BFGSAnalyticMinimize(x0 [9]float64, lim Watson9BFGSAnalyticLimits) w
 			if rises >= 8 {
 				return best.ending(Watson9BFGSAnalyticDiverged, out.iterations, out.evaluations)
 			}
+			watson9BFGSAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(Watson9BFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		watson9BFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := watson9BFGSAnalyticDot(&g, &d)
 		if !(now < 0) || !watson9BFGSAnalyticFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			watson9BFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = watson9BFGSAnalyticDot(&g, &d)
 		}
 		first := float64(watson9BFGSAnalyticStepInitial)
@@ -267,7 +271,7 @@ func watson9BFGSAnalyticMinimize(x0 [9]float64, lim Watson9BFGSAnalyticLimits) w
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := watson9BFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := watson9BFGSAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := watson9BFGSAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case watson9BFGSAnalyticSearchOutOfBudget:
@@ -303,8 +307,7 @@ func watson9BFGSAnalyticMinimize(x0 [9]float64, lim Watson9BFGSAnalyticLimits) w
 				}
 				return best.ending(Watson9BFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			watson9BFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += watson9BFGSAnalyticDerivativeCost
+			out.evaluations += watson9BFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		watson9BFGSAnalyticDifference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o watson9BFGSAnalyticOutcome) ending(end Watson9BFGSAnalyticStatus, iterat
 	return o
 }
 
+// watson9BFGSAnalyticEnterBox: without bounds every start is inside.
+func watson9BFGSAnalyticEnterBox(x *[9]float64, b *watson9BFGSAnalyticBox) {}
+
 // watson9BFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func watson9BFGSAnalyticFiniteVec(x *[9]float64) bool {
 	return true
 }
 
-// watson9BFGSAnalyticDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// watson9BFGSAnalyticDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type watson9BFGSAnalyticDifferences struct {
 	ratio     [9]float64
 	curvature [9]float64
 	second    [9]float64 // |f″| along e_i, for the rounding floor of a stall (see watson9BFGSAnalyticRoundingFloor)
+	bounds    watson9BFGSAnalyticBox
 }
 
 // watson9BFGSAnalyticCalibrate: an analytic gradient needs no intervals.
@@ -384,8 +392,9 @@ func watson9BFGSAnalyticCalibrate(x *[9]float64, fx float64, diffs *watson9BFGSA
 }
 
 // watson9BFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func watson9BFGSAnalyticDerivative(x *[9]float64, fx float64, g *[9]float64, diffs *watson9BFGSAnalyticDifferences) {
+func watson9BFGSAnalyticDerivative(x *[9]float64, fx float64, g *[9]float64, diffs *watson9BFGSAnalyticDifferences) int {
 	Watson9Grad(x, g)
+	return 0
 }
 
 // watson9BFGSAnalyticDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
@@ -525,13 +534,13 @@ func watson9BFGSAnalyticConfirmGradient(x *[9]float64, fx float64, g, e *[9]floa
 		wide.ratio[i] *= 2
 	}
 	var doubled [9]float64
-	watson9BFGSAnalyticDerivative(x, fx, g, diffs)
-	watson9BFGSAnalyticDerivative(x, fx, &doubled, &wide)
+	calls += watson9BFGSAnalyticDerivative(x, fx, g, diffs)
+	calls += watson9BFGSAnalyticDerivative(x, fx, &doubled, &wide)
 	watson9BFGSAnalyticGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * watson9BFGSAnalyticAbs(g[i]-doubled[i])
 	}
-	return calls + 2*watson9BFGSAnalyticDerivativeCost, true
+	return calls, true
 }
 
 // watson9BFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
@@ -573,18 +582,60 @@ func watson9BFGSAnalyticDiagonalCurvature(x, g *[9]float64, diffs *watson9BFGSAn
 	var moved [9]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := watson9BFGSAnalyticProbeStep(xi, watson9BFGSAnalyticSquareRoot(watson9BFGSAnalyticUnitRoundoff)*watson9BFGSAnalyticLarger(1, watson9BFGSAnalyticAbs(xi)))
-		probe[i] = up
-		Watson9Grad(&probe, &moved)
-		h[i] = watson9BFGSAnalyticAbs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := watson9BFGSAnalyticCoordinateRange(i, diffs)
+		up, delta := watson9BFGSAnalyticProbeStep(xi, watson9BFGSAnalyticOneSide(xi, watson9BFGSAnalyticSquareRoot(watson9BFGSAnalyticUnitRoundoff)*watson9BFGSAnalyticLarger(1, watson9BFGSAnalyticAbs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			Watson9Grad(&probe, &moved)
+			h[i] = watson9BFGSAnalyticAbs(moved[i]-g[i]) / watson9BFGSAnalyticAbs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// watson9BFGSAnalyticProbeStep returns x_i moved by h, and the step actually representable.
-func watson9BFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// watson9BFGSAnalyticCoordinateRange: without bounds any probe is allowed.
+func watson9BFGSAnalyticCoordinateRange(i int, diffs *watson9BFGSAnalyticDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// watson9BFGSAnalyticProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func watson9BFGSAnalyticProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := watson9BFGSAnalyticClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// watson9BFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func watson9BFGSAnalyticClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// watson9BFGSAnalyticOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func watson9BFGSAnalyticOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // watson9BFGSAnalyticSquareRoot returns √v.
@@ -600,6 +651,11 @@ func watson9BFGSAnalyticLarger(a, b float64) float64 {
 		return a
 	}
 	return b
+}
+
+// watson9BFGSAnalyticStationarity measures the gradient itself.
+func watson9BFGSAnalyticStationarity(g, e, x *[9]float64, fx float64, b *watson9BFGSAnalyticBox) (measure, floor float64) {
+	return watson9BFGSAnalyticGradientMeasure(g, e, x, fx)
 }
 
 // watson9BFGSAnalyticGradientMeasure is the scale-free measure
@@ -635,6 +691,14 @@ func watson9BFGSAnalyticStepWithin(s, x *[9]float64, tol float64) bool {
 	return true
 }
 
+// watson9BFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
+func watson9BFGSAnalyticCurvaturePair(s, y, x *[9]float64, b *watson9BFGSAnalyticBox) {}
+
+// watson9BFGSAnalyticSearchDirection is the direction's own.
+func watson9BFGSAnalyticSearchDirection(dir *watson9BFGSAnalyticDirection, x, g, d *[9]float64, b *watson9BFGSAnalyticBox) {
+	dir.compute(g, d)
+}
+
 // watson9BFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func watson9BFGSAnalyticTinyStep(x, d *[9]float64, tol float64) float64 {
@@ -662,7 +726,10 @@ func watson9BFGSAnalyticTinyStep(x, d *[9]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (watson9BFGSAnalyticStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -671,13 +738,17 @@ func watson9BFGSAnalyticTinyStep(x, d *[9]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func watson9BFGSAnalyticLineSearch(x *[9]float64, fx float64, d *[9]float64, slope, first, tiny float64, budget int, xt, gt *[9]float64, diffs *watson9BFGSAnalyticDifferences) watson9BFGSAnalyticLineResult {
+func watson9BFGSAnalyticLineSearch(x *[9]float64, fx float64, g, d *[9]float64, slope, first, tiny float64, budget int, xt, gt *[9]float64, diffs *watson9BFGSAnalyticDifferences) watson9BFGSAnalyticLineResult {
 	low := watson9BFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high watson9BFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [9]float64                                                   // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend watson9BFGSAnalyticRiseTrend // of the trials failing sufficient decrease
+	var trend watson9BFGSAnalyticRiseTrend                         // of the trials failing sufficient decrease
+	limit := watson9BFGSAnalyticStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < watson9BFGSAnalyticStepTrials; trial++ {
 		if bracketed && watson9BFGSAnalyticAbs(high.step-low.step) <= tiny {
@@ -687,12 +758,12 @@ func watson9BFGSAnalyticLineSearch(x *[9]float64, fx float64, d *[9]float64, slo
 			if low.step == 0 {
 				return watson9BFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: watson9BFGSAnalyticTinyOrExhausted(watson9BFGSAnalyticFinite(high.value))}
 			}
-			return watson9BFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return watson9BFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return watson9BFGSAnalyticLineResult{calls: calls, end: watson9BFGSAnalyticSearchOutOfBudget}
 		}
-		watson9BFGSAnalyticMoveTo(xt, x, t, d)
+		watson9BFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := watson9BFGSAnalyticLinePoint{step: t, value: Watson9(xt)}
 		calls++
 		previous := low
@@ -703,8 +774,7 @@ func watson9BFGSAnalyticLineSearch(x *[9]float64, fx float64, d *[9]float64, slo
 			if calls+watson9BFGSAnalyticDerivativeCost > budget {
 				return watson9BFGSAnalyticLineResult{calls: calls, end: watson9BFGSAnalyticSearchOutOfBudget}
 			}
-			watson9BFGSAnalyticDerivative(xt, current.value, gt, diffs)
-			calls += watson9BFGSAnalyticDerivativeCost
+			calls += watson9BFGSAnalyticDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = watson9BFGSAnalyticDot(gt, d), true
 			switch {
 			case !watson9BFGSAnalyticFinite(current.slope):
@@ -715,18 +785,22 @@ func watson9BFGSAnalyticLineSearch(x *[9]float64, fx float64, d *[9]float64, slo
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return watson9BFGSAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: watson9BFGSAnalyticSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = watson9BFGSAnalyticZoomTrial(&low, &high)
-		} else {
-			t = watson9BFGSAnalyticExpandTrial(&previous, &current)
+		} else if t = watson9BFGSAnalyticExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return watson9BFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return watson9BFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return watson9BFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: watson9BFGSAnalyticSearchExhausted}
 }
@@ -813,6 +887,11 @@ func watson9BFGSAnalyticFaithfulStep(x, xt, d *[9]float64, t float64) bool {
 	return true
 }
 
+// watson9BFGSAnalyticStepCap: without bounds a step may be as long as the search wants.
+func watson9BFGSAnalyticStepCap(x, d *[9]float64, tiny float64, b *watson9BFGSAnalyticBox) float64 {
+	return math.Inf(1)
+}
+
 // watson9BFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -837,10 +916,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func watson9BFGSAnalyticAcceptLow(x, d *[9]float64, low *watson9BFGSAnalyticLinePoint, lowGradient *[9]float64, calls int, xt, gt *[9]float64) watson9BFGSAnalyticLineResult {
-	watson9BFGSAnalyticMoveTo(xt, x, low.step, d)
+func watson9BFGSAnalyticAcceptLow(x, d *[9]float64, low *watson9BFGSAnalyticLinePoint, lowGradient *[9]float64, calls int, xt, gt *[9]float64, diffs *watson9BFGSAnalyticDifferences) watson9BFGSAnalyticLineResult {
+	watson9BFGSAnalyticTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return watson9BFGSAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: watson9BFGSAnalyticSearchAccepted}
+}
+
+// watson9BFGSAnalyticTrialPoint is x + t·d.
+func watson9BFGSAnalyticTrialPoint(out, x *[9]float64, t float64, d *[9]float64, b *watson9BFGSAnalyticBox) {
+	watson9BFGSAnalyticMoveTo(out, x, t, d)
 }
 
 // watson9BFGSAnalyticMoveTo sets out = x + t·d.
@@ -895,21 +979,6 @@ func watson9BFGSAnalyticModelMinimizer(a, b *watson9BFGSAnalyticLinePoint) (t fl
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, watson9BFGSAnalyticFinite(t)
-}
-
-// watson9BFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func watson9BFGSAnalyticClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // watson9BFGSAnalyticExpandTrial picks a larger trial after current met sufficient decrease

@@ -88,6 +88,9 @@ func Watson9BFGSCentralDefaultLimits() Watson9BFGSCentralLimits {
 	}
 }
 
+// watson9BFGSCentralBox is empty: mgh.toml sets no bounds on Watson9BFGSCentral.
+type watson9BFGSCentralBox struct{}
+
 // Watson9BFGSCentral minimizes Watson9 from x0, as mgh.toml specifies.
 //
 // Direction bfgs: BFGS quasi-Newton with a dense inverse-Hessian approximation (dim² numbers).
@@ -105,7 +108,7 @@ func Watson9BFGSCentral(x0 [9]float64) Watson9BFGSCentralResult {
 
 // Watson9BFGSCentralWithLimits is Watson9BFGSCentral with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func Watson9BFGSCentralWithLimits(x0 [9]float64, limits Watson9BFGSCentralLimits) Watson9BFGSCentralResult {
-	out := watson9BFGSCentralMinimize(x0, limits)
+	out := watson9BFGSCentralMinimize(x0, limits, watson9BFGSCentralBox{})
 	return Watson9BFGSCentralResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func watson9BFGSCentralMinimize(x0 [9]float64, lim Watson9BFGSCentralLimits) watson9BFGSCentralOutcome {
-	out := watson9BFGSCentralOutcome{x: x0, status: Watson9BFGSCentralOutOfEvaluations, gradient: math.NaN()}
+func watson9BFGSCentralMinimize(x0 [9]float64, lim Watson9BFGSCentralLimits, bounds watson9BFGSCentralBox) watson9BFGSCentralOutcome {
+	x := x0
+	watson9BFGSCentralEnterBox(&x, &bounds)
+	out := watson9BFGSCentralOutcome{x: x, status: Watson9BFGSCentralOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := Watson9(&x)
 	out.f, out.evaluations = fx, 1
 	if !watson9BFGSCentralFinite(fx) || !watson9BFGSCentralFiniteVec(&x) {
 		out.status = Watson9BFGSCentralNonFiniteStart
 		return out
 	}
-	var diffs watson9BFGSCentralDifferences
+	diffs := watson9BFGSCentralDifferences{bounds: bounds}
 	calls, ok := watson9BFGSCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+watson9BFGSCentralDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [9]float64
-	watson9BFGSCentralDerivative(&x, fx, &g, &diffs)
-	out.evaluations += watson9BFGSCentralDerivativeCost
+	out.evaluations += watson9BFGSCentralDerivative(&x, fx, &g, &diffs)
 
 	if !watson9BFGSCentralFiniteVec(&g) {
 		out.status = Watson9BFGSCentralNonFiniteGradient
@@ -211,7 +214,7 @@ func watson9BFGSCentralMinimize(x0 [9]float64, lim Watson9BFGSCentralLimits) wat
 		case !confirmed:
 			watson9BFGSCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := watson9BFGSCentralGradientMeasure(&g, &e, &x, fx)
+		measure, floor := watson9BFGSCentralStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, watson9BFGSCentralLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func watson9BFGSCentralMinimize(x0 [9]float64, lim Watson9BFGSCentralLimits) wat
 			if rises >= 8 {
 				return best.ending(Watson9BFGSCentralDiverged, out.iterations, out.evaluations)
 			}
+			watson9BFGSCentralCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(Watson9BFGSCentralOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		watson9BFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := watson9BFGSCentralDot(&g, &d)
 		if !(now < 0) || !watson9BFGSCentralFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			watson9BFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = watson9BFGSCentralDot(&g, &d)
 		}
 		first := float64(watson9BFGSCentralStepInitial)
@@ -267,7 +271,7 @@ func watson9BFGSCentralMinimize(x0 [9]float64, lim Watson9BFGSCentralLimits) wat
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := watson9BFGSCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := watson9BFGSCentralLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := watson9BFGSCentralLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case watson9BFGSCentralSearchOutOfBudget:
@@ -303,8 +307,7 @@ func watson9BFGSCentralMinimize(x0 [9]float64, lim Watson9BFGSCentralLimits) wat
 				}
 				return best.ending(Watson9BFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			watson9BFGSCentralDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += watson9BFGSCentralDerivativeCost
+			out.evaluations += watson9BFGSCentralDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		watson9BFGSCentralDifference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o watson9BFGSCentralOutcome) ending(end Watson9BFGSCentralStatus, iteratio
 	return o
 }
 
+// watson9BFGSCentralEnterBox: without bounds every start is inside.
+func watson9BFGSCentralEnterBox(x *[9]float64, b *watson9BFGSCentralBox) {}
+
 // watson9BFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func watson9BFGSCentralFiniteVec(x *[9]float64) bool {
 	return true
 }
 
-// watson9BFGSCentralDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// watson9BFGSCentralDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type watson9BFGSCentralDifferences struct {
 	ratio     [9]float64
 	curvature [9]float64
 	second    [9]float64 // |f″| along e_i, for the rounding floor of a stall (see watson9BFGSCentralRoundingFloor)
+	bounds    watson9BFGSCentralBox
 }
 
 // watson9BFGSCentralCalibrate chooses each central-difference interval from the
@@ -397,19 +405,45 @@ func watson9BFGSCentralCalibrate(x *[9]float64, fx float64, diffs *watson9BFGSCe
 	var slope [9]float64
 	scale := watson9BFGSCentralAbs(fx)
 	quarter := watson9BFGSCentralSquareRoot(watson9BFGSCentralSquareRoot(watson9BFGSCentralUnitRoundoff)) // u^(1/4)
+	calls := 0
 	for i := range probe {
-		if 4*(i+1) > budget {
-			return 4 * i, false
+		if calls+4 > budget {
+			return calls, false
 		}
 		xi := probe[i]
 		bar := quarter * watson9BFGSCentralLarger(1, watson9BFGSCentralAbs(xi))
+		lower, upper := watson9BFGSCentralCoordinateRange(i, diffs)
+		if xi+2*bar > upper || xi-2*bar < lower {
+			// At a bound: three probes on the side with room, at h, 2h
+			// and 3h, for f‴ ≈ (f(3h) − 3f(2h) + 3f(h) − f(0))/h³ (the
+			// third forward difference).
+			h := watson9BFGSCentralOneSide(xi, bar, 3, lower, upper)
+			if h == 0 {
+				continue // fixed by equal bounds
+			}
+			var f [3]float64
+			for k := range f {
+				probe[i], _ = watson9BFGSCentralProbeStep(xi, float64(k+1)*h, lower, upper)
+				f[k] = Watson9(&probe)
+				scale = watson9BFGSCentralLarger(scale, watson9BFGSCentralMagnitude(f[k]))
+			}
+			probe[i] = xi
+			calls += 3
+			if watson9BFGSCentralFinite(f[0]) && watson9BFGSCentralFinite(f[1]) && watson9BFGSCentralFinite(f[2]) {
+				diffs.curvature[i] = watson9BFGSCentralAbs(f[2]-3*f[1]+3*f[0]-fx) / watson9BFGSCentralAbs(h*h*h)
+				diffs.second[i] = watson9BFGSCentralAbs(fx-2*f[0]+f[1]) / (h * h)
+				slope[i] = (-3*fx + 4*f[0] - f[1]) / (2 * h)
+			}
+			continue
+		}
 		var f [4]float64
 		for k, m := range [4]float64{2, 1, -1, -2} {
-			probe[i], _ = watson9BFGSCentralProbeStep(xi, m*bar)
+			probe[i], _ = watson9BFGSCentralProbeStep(xi, m*bar, lower, upper)
 			f[k] = Watson9(&probe)
 			scale = watson9BFGSCentralLarger(scale, watson9BFGSCentralMagnitude(f[k]))
 		}
 		probe[i] = xi
+		calls += 4
 		if watson9BFGSCentralFinite(f[0]) && watson9BFGSCentralFinite(f[1]) && watson9BFGSCentralFinite(f[2]) && watson9BFGSCentralFinite(f[3]) {
 			diffs.curvature[i] = watson9BFGSCentralAbs(f[0]-2*f[1]+2*f[2]-f[3]) / (2 * bar * bar * bar)
 			diffs.second[i] = watson9BFGSCentralAbs(f[1]-2*fx+f[2]) / (bar * bar)
@@ -428,7 +462,7 @@ func watson9BFGSCentralCalibrate(x *[9]float64, fx float64, diffs *watson9BFGSCe
 		diffs.ratio[i] = watson9BFGSCentralClampBetween(h, 64*watson9BFGSCentralUnitRoundoff*s, bar) / s
 		diffs.curvature[i] = third
 	}
-	return 4 * len(probe), true
+	return calls, true
 }
 
 // watson9BFGSCentralAbs returns |v|.
@@ -454,10 +488,48 @@ func watson9BFGSCentralLarger(a, b float64) float64 {
 	return b
 }
 
-// watson9BFGSCentralProbeStep returns x_i moved by h, and the step actually representable.
-func watson9BFGSCentralProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// watson9BFGSCentralCoordinateRange: without bounds any probe is allowed.
+func watson9BFGSCentralCoordinateRange(i int, diffs *watson9BFGSCentralDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// watson9BFGSCentralOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func watson9BFGSCentralOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
+}
+
+// watson9BFGSCentralProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func watson9BFGSCentralProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := watson9BFGSCentralClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// watson9BFGSCentralClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func watson9BFGSCentralClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
 }
 
 // watson9BFGSCentralMagnitude is |v| for a finite v and 0 otherwise: a probe that fell
@@ -493,42 +565,85 @@ func watson9BFGSCentralCubeRoot(v float64) float64 {
 	return math.Cbrt(v)
 }
 
-// watson9BFGSCentralClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func watson9BFGSCentralClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
-}
-
 // watson9BFGSCentralDerivative approximates the gradient by central differences,
 //
 //	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),
 //
 // with the intervals watson9BFGSCentralCalibrate chose, h_i = ratio_i·max(1, |x_i|)
-// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls; fx is
-// not needed.
-func watson9BFGSCentralDerivative(x *[9]float64, fx float64, g *[9]float64, diffs *watson9BFGSCentralDifferences) {
+// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls. Where
+// a bound leaves no room on one side, the three-point endpoint formula on
+// the other side takes its place at the same cost (see parabola); a
+// variable fixed by equal bounds costs nothing and gets 0.
+func watson9BFGSCentralDerivative(x *[9]float64, fx float64, g *[9]float64, diffs *watson9BFGSCentralDifferences) int {
 	probe := *x
+	calls := 0
 	for i := range probe {
 		xi := probe[i]
-		h := diffs.ratio[i] * watson9BFGSCentralLarger(1, watson9BFGSCentralAbs(xi))
-		up, _ := watson9BFGSCentralProbeStep(xi, h)
-		down, _ := watson9BFGSCentralProbeStep(xi, -h)
-		probe[i] = up
-		fUp := Watson9(&probe)
-		probe[i] = down
-		fDown := Watson9(&probe)
-		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
-		probe[i] = xi
+		h, oneSided := watson9BFGSCentralCentralInterval(x, i, diffs)
+		lower, upper := watson9BFGSCentralCoordinateRange(i, diffs)
+		switch {
+		case h == 0:
+			g[i] = 0 // fixed by equal bounds
+			continue
+		case oneSided:
+			g[i], _, _ = watson9BFGSCentralSidedProbes(&probe, i, fx, h, lower, upper) // the three-point endpoint formula
+		default:
+			up, _ := watson9BFGSCentralProbeStep(xi, h, lower, upper)
+			down, _ := watson9BFGSCentralProbeStep(xi, -h, lower, upper)
+			probe[i] = up
+			fUp := Watson9(&probe)
+			probe[i] = down
+			fDown := Watson9(&probe)
+			g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+			probe[i] = xi
+		}
+		calls += 2
 	}
+	return calls
+}
+
+// watson9BFGSCentralCentralInterval is the interval of coordinate i at x, ratio_i·max(1,
+// |x_i|), and whether the box leaves room for probes on both sides; when
+// it does not, the interval is signed towards the side with room for
+// probes at h and 2h, and shortened where the box is narrower than that
+// (see watson9BFGSCentralOneSide).
+func watson9BFGSCentralCentralInterval(x *[9]float64, i int, diffs *watson9BFGSCentralDifferences) (h float64, oneSided bool) {
+	lower, upper := watson9BFGSCentralCoordinateRange(i, diffs)
+	h = diffs.ratio[i] * watson9BFGSCentralLarger(1, watson9BFGSCentralAbs(x[i]))
+	if x[i]+h <= upper && x[i]-h >= lower {
+		return h, false
+	}
+	return watson9BFGSCentralOneSide(x[i], h, 2, lower, upper), true
+}
+
+// watson9BFGSCentralSidedProbes evaluates f at x moved along coordinate i by h and by 2h,
+// kept within [lower, upper], and returns the slope and second derivative
+// of the parabola through them and (x, fx) (see parabola), and the larger
+// magnitude of the two values.
+func watson9BFGSCentralSidedProbes(probe *[9]float64, i int, fx, h, lower, upper float64) (slope, second, size float64) {
+	xi := probe[i]
+	near, a := watson9BFGSCentralProbeStep(xi, h, lower, upper)
+	far, b := watson9BFGSCentralProbeStep(xi, 2*h, lower, upper)
+	probe[i] = near
+	fNear := Watson9(probe)
+	probe[i] = far
+	fFar := Watson9(probe)
+	probe[i] = xi
+	slope, second = watson9BFGSCentralParabola(fx, a, fNear, b, fFar)
+	return slope, second, watson9BFGSCentralLarger(watson9BFGSCentralMagnitude(fNear), watson9BFGSCentralMagnitude(fFar))
+}
+
+// watson9BFGSCentralParabola returns the first and second derivatives at 0 of the parabola
+// through (0, f0), (a, fa) and (b, fb), for probes on one side of a bound.
+// With b = 2a they are the three-point endpoint formulas
+// f′ ≈ (−3f0 + 4fa − fb)/(2a), error a²|f‴|/3, and
+// f″ ≈ (f0 − 2fa + fb)/a² (Burden & Faires, Numerical Analysis, §4.1
+// and §4.1's second-derivative formulas, from memory); written for unequal
+// a and b, so that the representable steps can be used.
+func watson9BFGSCentralParabola(f0, a, fa, b, fb float64) (slope, second float64) {
+	slope = -(a+b)/(a*b)*f0 + b/(a*(b-a))*fa - a/(b*(b-a))*fb
+	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
+	return slope, second
 }
 
 // watson9BFGSCentralDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
@@ -668,13 +783,13 @@ func watson9BFGSCentralConfirmGradient(x *[9]float64, fx float64, g, e *[9]float
 		wide.ratio[i] *= 2
 	}
 	var doubled [9]float64
-	watson9BFGSCentralDerivative(x, fx, g, diffs)
-	watson9BFGSCentralDerivative(x, fx, &doubled, &wide)
+	calls += watson9BFGSCentralDerivative(x, fx, g, diffs)
+	calls += watson9BFGSCentralDerivative(x, fx, &doubled, &wide)
 	watson9BFGSCentralGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * watson9BFGSCentralAbs(g[i]-doubled[i])
 	}
-	return calls + 2*watson9BFGSCentralDerivativeCost, true
+	return calls, true
 }
 
 // watson9BFGSCentralGradientError bounds each central difference's error by twice its
@@ -684,8 +799,16 @@ func watson9BFGSCentralConfirmGradient(x *[9]float64, fx float64, g, e *[9]float
 func watson9BFGSCentralGradientError(x *[9]float64, fx float64, g, e *[9]float64, diffs *watson9BFGSCentralDifferences) {
 	noise := watson9BFGSCentralNoiseLevel(x, fx, g)
 	for i := range e {
-		h := diffs.ratio[i] * watson9BFGSCentralLarger(1, watson9BFGSCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		h, oneSided := watson9BFGSCentralCentralInterval(x, i, diffs)
+		h = watson9BFGSCentralAbs(h)
+		switch {
+		case h == 0:
+			e[i] = 0 // fixed by equal bounds
+		case oneSided:
+			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+		default:
+			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		}
 	}
 }
 
@@ -707,6 +830,11 @@ func watson9BFGSCentralRoundingFloor(x, g, e *[9]float64, diffs *watson9BFGSCent
 // calibration, which watson9BFGSCentralConfirmGradient has just made at x.
 func watson9BFGSCentralDiagonalCurvature(x, g *[9]float64, diffs *watson9BFGSCentralDifferences, h *[9]float64) {
 	*h = diffs.second
+}
+
+// watson9BFGSCentralStationarity measures the gradient itself.
+func watson9BFGSCentralStationarity(g, e, x *[9]float64, fx float64, b *watson9BFGSCentralBox) (measure, floor float64) {
+	return watson9BFGSCentralGradientMeasure(g, e, x, fx)
 }
 
 // watson9BFGSCentralGradientMeasure is the scale-free measure
@@ -742,6 +870,14 @@ func watson9BFGSCentralStepWithin(s, x *[9]float64, tol float64) bool {
 	return true
 }
 
+// watson9BFGSCentralCurvaturePair: without bounds the pair is used as it is.
+func watson9BFGSCentralCurvaturePair(s, y, x *[9]float64, b *watson9BFGSCentralBox) {}
+
+// watson9BFGSCentralSearchDirection is the direction's own.
+func watson9BFGSCentralSearchDirection(dir *watson9BFGSCentralDirection, x, g, d *[9]float64, b *watson9BFGSCentralBox) {
+	dir.compute(g, d)
+}
+
 // watson9BFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func watson9BFGSCentralTinyStep(x, d *[9]float64, tol float64) float64 {
@@ -769,7 +905,10 @@ func watson9BFGSCentralTinyStep(x, d *[9]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (watson9BFGSCentralStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -778,13 +917,17 @@ func watson9BFGSCentralTinyStep(x, d *[9]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func watson9BFGSCentralLineSearch(x *[9]float64, fx float64, d *[9]float64, slope, first, tiny float64, budget int, xt, gt *[9]float64, diffs *watson9BFGSCentralDifferences) watson9BFGSCentralLineResult {
+func watson9BFGSCentralLineSearch(x *[9]float64, fx float64, g, d *[9]float64, slope, first, tiny float64, budget int, xt, gt *[9]float64, diffs *watson9BFGSCentralDifferences) watson9BFGSCentralLineResult {
 	low := watson9BFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high watson9BFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [9]float64                                                  // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend watson9BFGSCentralRiseTrend // of the trials failing sufficient decrease
+	var trend watson9BFGSCentralRiseTrend                         // of the trials failing sufficient decrease
+	limit := watson9BFGSCentralStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < watson9BFGSCentralStepTrials; trial++ {
 		if bracketed && watson9BFGSCentralAbs(high.step-low.step) <= tiny {
@@ -794,12 +937,12 @@ func watson9BFGSCentralLineSearch(x *[9]float64, fx float64, d *[9]float64, slop
 			if low.step == 0 {
 				return watson9BFGSCentralLineResult{calls: calls, rising: trend.contradicts(), end: watson9BFGSCentralTinyOrExhausted(watson9BFGSCentralFinite(high.value))}
 			}
-			return watson9BFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return watson9BFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return watson9BFGSCentralLineResult{calls: calls, end: watson9BFGSCentralSearchOutOfBudget}
 		}
-		watson9BFGSCentralMoveTo(xt, x, t, d)
+		watson9BFGSCentralTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := watson9BFGSCentralLinePoint{step: t, value: Watson9(xt)}
 		calls++
 		previous := low
@@ -810,8 +953,7 @@ func watson9BFGSCentralLineSearch(x *[9]float64, fx float64, d *[9]float64, slop
 			if calls+watson9BFGSCentralDerivativeCost > budget {
 				return watson9BFGSCentralLineResult{calls: calls, end: watson9BFGSCentralSearchOutOfBudget}
 			}
-			watson9BFGSCentralDerivative(xt, current.value, gt, diffs)
-			calls += watson9BFGSCentralDerivativeCost
+			calls += watson9BFGSCentralDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = watson9BFGSCentralDot(gt, d), true
 			switch {
 			case !watson9BFGSCentralFinite(current.slope):
@@ -822,18 +964,22 @@ func watson9BFGSCentralLineSearch(x *[9]float64, fx float64, d *[9]float64, slop
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return watson9BFGSCentralLineResult{step: t, value: current.value, calls: calls, gradient: true, end: watson9BFGSCentralSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = watson9BFGSCentralZoomTrial(&low, &high)
-		} else {
-			t = watson9BFGSCentralExpandTrial(&previous, &current)
+		} else if t = watson9BFGSCentralExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return watson9BFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return watson9BFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return watson9BFGSCentralLineResult{calls: calls, rising: trend.contradicts(), end: watson9BFGSCentralSearchExhausted}
 }
@@ -920,6 +1066,11 @@ func watson9BFGSCentralFaithfulStep(x, xt, d *[9]float64, t float64) bool {
 	return true
 }
 
+// watson9BFGSCentralStepCap: without bounds a step may be as long as the search wants.
+func watson9BFGSCentralStepCap(x, d *[9]float64, tiny float64, b *watson9BFGSCentralBox) float64 {
+	return math.Inf(1)
+}
+
 // watson9BFGSCentralTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -944,10 +1095,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func watson9BFGSCentralAcceptLow(x, d *[9]float64, low *watson9BFGSCentralLinePoint, lowGradient *[9]float64, calls int, xt, gt *[9]float64) watson9BFGSCentralLineResult {
-	watson9BFGSCentralMoveTo(xt, x, low.step, d)
+func watson9BFGSCentralAcceptLow(x, d *[9]float64, low *watson9BFGSCentralLinePoint, lowGradient *[9]float64, calls int, xt, gt *[9]float64, diffs *watson9BFGSCentralDifferences) watson9BFGSCentralLineResult {
+	watson9BFGSCentralTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return watson9BFGSCentralLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: watson9BFGSCentralSearchAccepted}
+}
+
+// watson9BFGSCentralTrialPoint is x + t·d.
+func watson9BFGSCentralTrialPoint(out, x *[9]float64, t float64, d *[9]float64, b *watson9BFGSCentralBox) {
+	watson9BFGSCentralMoveTo(out, x, t, d)
 }
 
 // watson9BFGSCentralMoveTo sets out = x + t·d.

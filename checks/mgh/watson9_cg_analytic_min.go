@@ -88,6 +88,9 @@ func Watson9CGAnalyticDefaultLimits() Watson9CGAnalyticLimits {
 	}
 }
 
+// watson9CGAnalyticBox is empty: mgh.toml sets no bounds on Watson9CGAnalytic.
+type watson9CGAnalyticBox struct{}
+
 // Watson9CGAnalytic minimizes Watson9 from x0, as mgh.toml specifies.
 //
 // Direction cg: nonlinear conjugate gradients, Polak–Ribière clipped at zero (PR+), restarted every dim steps.
@@ -105,7 +108,7 @@ func Watson9CGAnalytic(x0 [9]float64) Watson9CGAnalyticResult {
 
 // Watson9CGAnalyticWithLimits is Watson9CGAnalytic with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func Watson9CGAnalyticWithLimits(x0 [9]float64, limits Watson9CGAnalyticLimits) Watson9CGAnalyticResult {
-	out := watson9CGAnalyticMinimize(x0, limits)
+	out := watson9CGAnalyticMinimize(x0, limits, watson9CGAnalyticBox{})
 	return Watson9CGAnalyticResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func watson9CGAnalyticMinimize(x0 [9]float64, lim Watson9CGAnalyticLimits) watson9CGAnalyticOutcome {
-	out := watson9CGAnalyticOutcome{x: x0, status: Watson9CGAnalyticOutOfEvaluations, gradient: math.NaN()}
+func watson9CGAnalyticMinimize(x0 [9]float64, lim Watson9CGAnalyticLimits, bounds watson9CGAnalyticBox) watson9CGAnalyticOutcome {
+	x := x0
+	watson9CGAnalyticEnterBox(&x, &bounds)
+	out := watson9CGAnalyticOutcome{x: x, status: Watson9CGAnalyticOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := Watson9(&x)
 	out.f, out.evaluations = fx, 1
 	if !watson9CGAnalyticFinite(fx) || !watson9CGAnalyticFiniteVec(&x) {
 		out.status = Watson9CGAnalyticNonFiniteStart
 		return out
 	}
-	var diffs watson9CGAnalyticDifferences
+	diffs := watson9CGAnalyticDifferences{bounds: bounds}
 	calls, ok := watson9CGAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+watson9CGAnalyticDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [9]float64
-	watson9CGAnalyticDerivative(&x, fx, &g, &diffs)
-	out.evaluations += watson9CGAnalyticDerivativeCost
+	out.evaluations += watson9CGAnalyticDerivative(&x, fx, &g, &diffs)
 
 	if !watson9CGAnalyticFiniteVec(&g) {
 		out.status = Watson9CGAnalyticNonFiniteGradient
@@ -211,7 +214,7 @@ func watson9CGAnalyticMinimize(x0 [9]float64, lim Watson9CGAnalyticLimits) watso
 		case !confirmed:
 			watson9CGAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := watson9CGAnalyticGradientMeasure(&g, &e, &x, fx)
+		measure, floor := watson9CGAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, watson9CGAnalyticLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func watson9CGAnalyticMinimize(x0 [9]float64, lim Watson9CGAnalyticLimits) watso
 			if rises >= 8 {
 				return best.ending(Watson9CGAnalyticDiverged, out.iterations, out.evaluations)
 			}
+			watson9CGAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(Watson9CGAnalyticOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		watson9CGAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := watson9CGAnalyticDot(&g, &d)
 		if !(now < 0) || !watson9CGAnalyticFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			watson9CGAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = watson9CGAnalyticDot(&g, &d)
 		}
 		first := float64(watson9CGAnalyticStepInitial)
@@ -267,7 +271,7 @@ func watson9CGAnalyticMinimize(x0 [9]float64, lim Watson9CGAnalyticLimits) watso
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := watson9CGAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := watson9CGAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := watson9CGAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case watson9CGAnalyticSearchOutOfBudget:
@@ -303,8 +307,7 @@ func watson9CGAnalyticMinimize(x0 [9]float64, lim Watson9CGAnalyticLimits) watso
 				}
 				return best.ending(Watson9CGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			watson9CGAnalyticDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += watson9CGAnalyticDerivativeCost
+			out.evaluations += watson9CGAnalyticDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		watson9CGAnalyticDifference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o watson9CGAnalyticOutcome) ending(end Watson9CGAnalyticStatus, iterations
 	return o
 }
 
+// watson9CGAnalyticEnterBox: without bounds every start is inside.
+func watson9CGAnalyticEnterBox(x *[9]float64, b *watson9CGAnalyticBox) {}
+
 // watson9CGAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func watson9CGAnalyticFiniteVec(x *[9]float64) bool {
 	return true
 }
 
-// watson9CGAnalyticDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// watson9CGAnalyticDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type watson9CGAnalyticDifferences struct {
 	ratio     [9]float64
 	curvature [9]float64
 	second    [9]float64 // |f″| along e_i, for the rounding floor of a stall (see watson9CGAnalyticRoundingFloor)
+	bounds    watson9CGAnalyticBox
 }
 
 // watson9CGAnalyticCalibrate: an analytic gradient needs no intervals.
@@ -384,8 +392,9 @@ func watson9CGAnalyticCalibrate(x *[9]float64, fx float64, diffs *watson9CGAnaly
 }
 
 // watson9CGAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func watson9CGAnalyticDerivative(x *[9]float64, fx float64, g *[9]float64, diffs *watson9CGAnalyticDifferences) {
+func watson9CGAnalyticDerivative(x *[9]float64, fx float64, g *[9]float64, diffs *watson9CGAnalyticDifferences) int {
 	Watson9Grad(x, g)
+	return 0
 }
 
 // watson9CGAnalyticDirection is nonlinear conjugate gradients with the Polak–Ribière
@@ -517,13 +526,13 @@ func watson9CGAnalyticConfirmGradient(x *[9]float64, fx float64, g, e *[9]float6
 		wide.ratio[i] *= 2
 	}
 	var doubled [9]float64
-	watson9CGAnalyticDerivative(x, fx, g, diffs)
-	watson9CGAnalyticDerivative(x, fx, &doubled, &wide)
+	calls += watson9CGAnalyticDerivative(x, fx, g, diffs)
+	calls += watson9CGAnalyticDerivative(x, fx, &doubled, &wide)
 	watson9CGAnalyticGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * watson9CGAnalyticAbs(g[i]-doubled[i])
 	}
-	return calls + 2*watson9CGAnalyticDerivativeCost, true
+	return calls, true
 }
 
 // watson9CGAnalyticGradientError: the analytic gradient is taken as exact; its error is
@@ -565,23 +574,70 @@ func watson9CGAnalyticDiagonalCurvature(x, g *[9]float64, diffs *watson9CGAnalyt
 	var moved [9]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := watson9CGAnalyticProbeStep(xi, watson9CGAnalyticSquareRoot(watson9CGAnalyticUnitRoundoff)*watson9CGAnalyticLarger(1, watson9CGAnalyticAbs(xi)))
-		probe[i] = up
-		Watson9Grad(&probe, &moved)
-		h[i] = watson9CGAnalyticAbs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := watson9CGAnalyticCoordinateRange(i, diffs)
+		up, delta := watson9CGAnalyticProbeStep(xi, watson9CGAnalyticOneSide(xi, watson9CGAnalyticSquareRoot(watson9CGAnalyticUnitRoundoff)*watson9CGAnalyticLarger(1, watson9CGAnalyticAbs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			Watson9Grad(&probe, &moved)
+			h[i] = watson9CGAnalyticAbs(moved[i]-g[i]) / watson9CGAnalyticAbs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// watson9CGAnalyticProbeStep returns x_i moved by h, and the step actually representable.
-func watson9CGAnalyticProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// watson9CGAnalyticCoordinateRange: without bounds any probe is allowed.
+func watson9CGAnalyticCoordinateRange(i int, diffs *watson9CGAnalyticDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// watson9CGAnalyticProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func watson9CGAnalyticProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := watson9CGAnalyticClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// watson9CGAnalyticClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func watson9CGAnalyticClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// watson9CGAnalyticOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func watson9CGAnalyticOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // watson9CGAnalyticSquareRoot returns √v.
 func watson9CGAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// watson9CGAnalyticStationarity measures the gradient itself.
+func watson9CGAnalyticStationarity(g, e, x *[9]float64, fx float64, b *watson9CGAnalyticBox) (measure, floor float64) {
+	return watson9CGAnalyticGradientMeasure(g, e, x, fx)
 }
 
 // watson9CGAnalyticGradientMeasure is the scale-free measure
@@ -617,6 +673,14 @@ func watson9CGAnalyticStepWithin(s, x *[9]float64, tol float64) bool {
 	return true
 }
 
+// watson9CGAnalyticCurvaturePair: without bounds the pair is used as it is.
+func watson9CGAnalyticCurvaturePair(s, y, x *[9]float64, b *watson9CGAnalyticBox) {}
+
+// watson9CGAnalyticSearchDirection is the direction's own.
+func watson9CGAnalyticSearchDirection(dir *watson9CGAnalyticDirection, x, g, d *[9]float64, b *watson9CGAnalyticBox) {
+	dir.compute(g, d)
+}
+
 // watson9CGAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func watson9CGAnalyticTinyStep(x, d *[9]float64, tol float64) float64 {
@@ -644,7 +708,10 @@ func watson9CGAnalyticTinyStep(x, d *[9]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (watson9CGAnalyticStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -653,13 +720,17 @@ func watson9CGAnalyticTinyStep(x, d *[9]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func watson9CGAnalyticLineSearch(x *[9]float64, fx float64, d *[9]float64, slope, first, tiny float64, budget int, xt, gt *[9]float64, diffs *watson9CGAnalyticDifferences) watson9CGAnalyticLineResult {
+func watson9CGAnalyticLineSearch(x *[9]float64, fx float64, g, d *[9]float64, slope, first, tiny float64, budget int, xt, gt *[9]float64, diffs *watson9CGAnalyticDifferences) watson9CGAnalyticLineResult {
 	low := watson9CGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high watson9CGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [9]float64                                                 // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend watson9CGAnalyticRiseTrend // of the trials failing sufficient decrease
+	var trend watson9CGAnalyticRiseTrend                         // of the trials failing sufficient decrease
+	limit := watson9CGAnalyticStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < watson9CGAnalyticStepTrials; trial++ {
 		if bracketed && watson9CGAnalyticAbs(high.step-low.step) <= tiny {
@@ -669,12 +740,12 @@ func watson9CGAnalyticLineSearch(x *[9]float64, fx float64, d *[9]float64, slope
 			if low.step == 0 {
 				return watson9CGAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: watson9CGAnalyticTinyOrExhausted(watson9CGAnalyticFinite(high.value))}
 			}
-			return watson9CGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return watson9CGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return watson9CGAnalyticLineResult{calls: calls, end: watson9CGAnalyticSearchOutOfBudget}
 		}
-		watson9CGAnalyticMoveTo(xt, x, t, d)
+		watson9CGAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := watson9CGAnalyticLinePoint{step: t, value: Watson9(xt)}
 		calls++
 		previous := low
@@ -685,8 +756,7 @@ func watson9CGAnalyticLineSearch(x *[9]float64, fx float64, d *[9]float64, slope
 			if calls+watson9CGAnalyticDerivativeCost > budget {
 				return watson9CGAnalyticLineResult{calls: calls, end: watson9CGAnalyticSearchOutOfBudget}
 			}
-			watson9CGAnalyticDerivative(xt, current.value, gt, diffs)
-			calls += watson9CGAnalyticDerivativeCost
+			calls += watson9CGAnalyticDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = watson9CGAnalyticDot(gt, d), true
 			switch {
 			case !watson9CGAnalyticFinite(current.slope):
@@ -697,18 +767,22 @@ func watson9CGAnalyticLineSearch(x *[9]float64, fx float64, d *[9]float64, slope
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return watson9CGAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: watson9CGAnalyticSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = watson9CGAnalyticZoomTrial(&low, &high)
-		} else {
-			t = watson9CGAnalyticExpandTrial(&previous, &current)
+		} else if t = watson9CGAnalyticExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return watson9CGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return watson9CGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return watson9CGAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: watson9CGAnalyticSearchExhausted}
 }
@@ -795,6 +869,11 @@ func watson9CGAnalyticFaithfulStep(x, xt, d *[9]float64, t float64) bool {
 	return true
 }
 
+// watson9CGAnalyticStepCap: without bounds a step may be as long as the search wants.
+func watson9CGAnalyticStepCap(x, d *[9]float64, tiny float64, b *watson9CGAnalyticBox) float64 {
+	return math.Inf(1)
+}
+
 // watson9CGAnalyticTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -819,10 +898,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func watson9CGAnalyticAcceptLow(x, d *[9]float64, low *watson9CGAnalyticLinePoint, lowGradient *[9]float64, calls int, xt, gt *[9]float64) watson9CGAnalyticLineResult {
-	watson9CGAnalyticMoveTo(xt, x, low.step, d)
+func watson9CGAnalyticAcceptLow(x, d *[9]float64, low *watson9CGAnalyticLinePoint, lowGradient *[9]float64, calls int, xt, gt *[9]float64, diffs *watson9CGAnalyticDifferences) watson9CGAnalyticLineResult {
+	watson9CGAnalyticTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return watson9CGAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: watson9CGAnalyticSearchAccepted}
+}
+
+// watson9CGAnalyticTrialPoint is x + t·d.
+func watson9CGAnalyticTrialPoint(out, x *[9]float64, t float64, d *[9]float64, b *watson9CGAnalyticBox) {
+	watson9CGAnalyticMoveTo(out, x, t, d)
 }
 
 // watson9CGAnalyticMoveTo sets out = x + t·d.
@@ -877,21 +961,6 @@ func watson9CGAnalyticModelMinimizer(a, b *watson9CGAnalyticLinePoint) (t float6
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, watson9CGAnalyticFinite(t)
-}
-
-// watson9CGAnalyticClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func watson9CGAnalyticClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // watson9CGAnalyticExpandTrial picks a larger trial after current met sufficient decrease

@@ -88,6 +88,9 @@ func Watson9CGCentralDefaultLimits() Watson9CGCentralLimits {
 	}
 }
 
+// watson9CGCentralBox is empty: mgh.toml sets no bounds on Watson9CGCentral.
+type watson9CGCentralBox struct{}
+
 // Watson9CGCentral minimizes Watson9 from x0, as mgh.toml specifies.
 //
 // Direction cg: nonlinear conjugate gradients, Polak–Ribière clipped at zero (PR+), restarted every dim steps.
@@ -105,7 +108,7 @@ func Watson9CGCentral(x0 [9]float64) Watson9CGCentralResult {
 
 // Watson9CGCentralWithLimits is Watson9CGCentral with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func Watson9CGCentralWithLimits(x0 [9]float64, limits Watson9CGCentralLimits) Watson9CGCentralResult {
-	out := watson9CGCentralMinimize(x0, limits)
+	out := watson9CGCentralMinimize(x0, limits, watson9CGCentralBox{})
 	return Watson9CGCentralResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func watson9CGCentralMinimize(x0 [9]float64, lim Watson9CGCentralLimits) watson9CGCentralOutcome {
-	out := watson9CGCentralOutcome{x: x0, status: Watson9CGCentralOutOfEvaluations, gradient: math.NaN()}
+func watson9CGCentralMinimize(x0 [9]float64, lim Watson9CGCentralLimits, bounds watson9CGCentralBox) watson9CGCentralOutcome {
+	x := x0
+	watson9CGCentralEnterBox(&x, &bounds)
+	out := watson9CGCentralOutcome{x: x, status: Watson9CGCentralOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := Watson9(&x)
 	out.f, out.evaluations = fx, 1
 	if !watson9CGCentralFinite(fx) || !watson9CGCentralFiniteVec(&x) {
 		out.status = Watson9CGCentralNonFiniteStart
 		return out
 	}
-	var diffs watson9CGCentralDifferences
+	diffs := watson9CGCentralDifferences{bounds: bounds}
 	calls, ok := watson9CGCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+watson9CGCentralDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [9]float64
-	watson9CGCentralDerivative(&x, fx, &g, &diffs)
-	out.evaluations += watson9CGCentralDerivativeCost
+	out.evaluations += watson9CGCentralDerivative(&x, fx, &g, &diffs)
 
 	if !watson9CGCentralFiniteVec(&g) {
 		out.status = Watson9CGCentralNonFiniteGradient
@@ -211,7 +214,7 @@ func watson9CGCentralMinimize(x0 [9]float64, lim Watson9CGCentralLimits) watson9
 		case !confirmed:
 			watson9CGCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := watson9CGCentralGradientMeasure(&g, &e, &x, fx)
+		measure, floor := watson9CGCentralStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, watson9CGCentralLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func watson9CGCentralMinimize(x0 [9]float64, lim Watson9CGCentralLimits) watson9
 			if rises >= 8 {
 				return best.ending(Watson9CGCentralDiverged, out.iterations, out.evaluations)
 			}
+			watson9CGCentralCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(Watson9CGCentralOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		watson9CGCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := watson9CGCentralDot(&g, &d)
 		if !(now < 0) || !watson9CGCentralFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			watson9CGCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = watson9CGCentralDot(&g, &d)
 		}
 		first := float64(watson9CGCentralStepInitial)
@@ -267,7 +271,7 @@ func watson9CGCentralMinimize(x0 [9]float64, lim Watson9CGCentralLimits) watson9
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := watson9CGCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := watson9CGCentralLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := watson9CGCentralLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case watson9CGCentralSearchOutOfBudget:
@@ -303,8 +307,7 @@ func watson9CGCentralMinimize(x0 [9]float64, lim Watson9CGCentralLimits) watson9
 				}
 				return best.ending(Watson9CGCentralOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			watson9CGCentralDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += watson9CGCentralDerivativeCost
+			out.evaluations += watson9CGCentralDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		watson9CGCentralDifference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o watson9CGCentralOutcome) ending(end Watson9CGCentralStatus, iterations, 
 	return o
 }
 
+// watson9CGCentralEnterBox: without bounds every start is inside.
+func watson9CGCentralEnterBox(x *[9]float64, b *watson9CGCentralBox) {}
+
 // watson9CGCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func watson9CGCentralFiniteVec(x *[9]float64) bool {
 	return true
 }
 
-// watson9CGCentralDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// watson9CGCentralDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type watson9CGCentralDifferences struct {
 	ratio     [9]float64
 	curvature [9]float64
 	second    [9]float64 // |f″| along e_i, for the rounding floor of a stall (see watson9CGCentralRoundingFloor)
+	bounds    watson9CGCentralBox
 }
 
 // watson9CGCentralCalibrate chooses each central-difference interval from the
@@ -397,19 +405,45 @@ func watson9CGCentralCalibrate(x *[9]float64, fx float64, diffs *watson9CGCentra
 	var slope [9]float64
 	scale := watson9CGCentralAbs(fx)
 	quarter := watson9CGCentralSquareRoot(watson9CGCentralSquareRoot(watson9CGCentralUnitRoundoff)) // u^(1/4)
+	calls := 0
 	for i := range probe {
-		if 4*(i+1) > budget {
-			return 4 * i, false
+		if calls+4 > budget {
+			return calls, false
 		}
 		xi := probe[i]
 		bar := quarter * watson9CGCentralLarger(1, watson9CGCentralAbs(xi))
+		lower, upper := watson9CGCentralCoordinateRange(i, diffs)
+		if xi+2*bar > upper || xi-2*bar < lower {
+			// At a bound: three probes on the side with room, at h, 2h
+			// and 3h, for f‴ ≈ (f(3h) − 3f(2h) + 3f(h) − f(0))/h³ (the
+			// third forward difference).
+			h := watson9CGCentralOneSide(xi, bar, 3, lower, upper)
+			if h == 0 {
+				continue // fixed by equal bounds
+			}
+			var f [3]float64
+			for k := range f {
+				probe[i], _ = watson9CGCentralProbeStep(xi, float64(k+1)*h, lower, upper)
+				f[k] = Watson9(&probe)
+				scale = watson9CGCentralLarger(scale, watson9CGCentralMagnitude(f[k]))
+			}
+			probe[i] = xi
+			calls += 3
+			if watson9CGCentralFinite(f[0]) && watson9CGCentralFinite(f[1]) && watson9CGCentralFinite(f[2]) {
+				diffs.curvature[i] = watson9CGCentralAbs(f[2]-3*f[1]+3*f[0]-fx) / watson9CGCentralAbs(h*h*h)
+				diffs.second[i] = watson9CGCentralAbs(fx-2*f[0]+f[1]) / (h * h)
+				slope[i] = (-3*fx + 4*f[0] - f[1]) / (2 * h)
+			}
+			continue
+		}
 		var f [4]float64
 		for k, m := range [4]float64{2, 1, -1, -2} {
-			probe[i], _ = watson9CGCentralProbeStep(xi, m*bar)
+			probe[i], _ = watson9CGCentralProbeStep(xi, m*bar, lower, upper)
 			f[k] = Watson9(&probe)
 			scale = watson9CGCentralLarger(scale, watson9CGCentralMagnitude(f[k]))
 		}
 		probe[i] = xi
+		calls += 4
 		if watson9CGCentralFinite(f[0]) && watson9CGCentralFinite(f[1]) && watson9CGCentralFinite(f[2]) && watson9CGCentralFinite(f[3]) {
 			diffs.curvature[i] = watson9CGCentralAbs(f[0]-2*f[1]+2*f[2]-f[3]) / (2 * bar * bar * bar)
 			diffs.second[i] = watson9CGCentralAbs(f[1]-2*fx+f[2]) / (bar * bar)
@@ -428,7 +462,7 @@ func watson9CGCentralCalibrate(x *[9]float64, fx float64, diffs *watson9CGCentra
 		diffs.ratio[i] = watson9CGCentralClampBetween(h, 64*watson9CGCentralUnitRoundoff*s, bar) / s
 		diffs.curvature[i] = third
 	}
-	return 4 * len(probe), true
+	return calls, true
 }
 
 // watson9CGCentralAbs returns |v|.
@@ -454,10 +488,48 @@ func watson9CGCentralLarger(a, b float64) float64 {
 	return b
 }
 
-// watson9CGCentralProbeStep returns x_i moved by h, and the step actually representable.
-func watson9CGCentralProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// watson9CGCentralCoordinateRange: without bounds any probe is allowed.
+func watson9CGCentralCoordinateRange(i int, diffs *watson9CGCentralDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// watson9CGCentralOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func watson9CGCentralOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
+}
+
+// watson9CGCentralProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func watson9CGCentralProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := watson9CGCentralClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// watson9CGCentralClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func watson9CGCentralClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
 }
 
 // watson9CGCentralMagnitude is |v| for a finite v and 0 otherwise: a probe that fell
@@ -493,42 +565,85 @@ func watson9CGCentralCubeRoot(v float64) float64 {
 	return math.Cbrt(v)
 }
 
-// watson9CGCentralClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func watson9CGCentralClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
-}
-
 // watson9CGCentralDerivative approximates the gradient by central differences,
 //
 //	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),
 //
 // with the intervals watson9CGCentralCalibrate chose, h_i = ratio_i·max(1, |x_i|)
-// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls; fx is
-// not needed.
-func watson9CGCentralDerivative(x *[9]float64, fx float64, g *[9]float64, diffs *watson9CGCentralDifferences) {
+// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls. Where
+// a bound leaves no room on one side, the three-point endpoint formula on
+// the other side takes its place at the same cost (see parabola); a
+// variable fixed by equal bounds costs nothing and gets 0.
+func watson9CGCentralDerivative(x *[9]float64, fx float64, g *[9]float64, diffs *watson9CGCentralDifferences) int {
 	probe := *x
+	calls := 0
 	for i := range probe {
 		xi := probe[i]
-		h := diffs.ratio[i] * watson9CGCentralLarger(1, watson9CGCentralAbs(xi))
-		up, _ := watson9CGCentralProbeStep(xi, h)
-		down, _ := watson9CGCentralProbeStep(xi, -h)
-		probe[i] = up
-		fUp := Watson9(&probe)
-		probe[i] = down
-		fDown := Watson9(&probe)
-		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
-		probe[i] = xi
+		h, oneSided := watson9CGCentralCentralInterval(x, i, diffs)
+		lower, upper := watson9CGCentralCoordinateRange(i, diffs)
+		switch {
+		case h == 0:
+			g[i] = 0 // fixed by equal bounds
+			continue
+		case oneSided:
+			g[i], _, _ = watson9CGCentralSidedProbes(&probe, i, fx, h, lower, upper) // the three-point endpoint formula
+		default:
+			up, _ := watson9CGCentralProbeStep(xi, h, lower, upper)
+			down, _ := watson9CGCentralProbeStep(xi, -h, lower, upper)
+			probe[i] = up
+			fUp := Watson9(&probe)
+			probe[i] = down
+			fDown := Watson9(&probe)
+			g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+			probe[i] = xi
+		}
+		calls += 2
 	}
+	return calls
+}
+
+// watson9CGCentralCentralInterval is the interval of coordinate i at x, ratio_i·max(1,
+// |x_i|), and whether the box leaves room for probes on both sides; when
+// it does not, the interval is signed towards the side with room for
+// probes at h and 2h, and shortened where the box is narrower than that
+// (see watson9CGCentralOneSide).
+func watson9CGCentralCentralInterval(x *[9]float64, i int, diffs *watson9CGCentralDifferences) (h float64, oneSided bool) {
+	lower, upper := watson9CGCentralCoordinateRange(i, diffs)
+	h = diffs.ratio[i] * watson9CGCentralLarger(1, watson9CGCentralAbs(x[i]))
+	if x[i]+h <= upper && x[i]-h >= lower {
+		return h, false
+	}
+	return watson9CGCentralOneSide(x[i], h, 2, lower, upper), true
+}
+
+// watson9CGCentralSidedProbes evaluates f at x moved along coordinate i by h and by 2h,
+// kept within [lower, upper], and returns the slope and second derivative
+// of the parabola through them and (x, fx) (see parabola), and the larger
+// magnitude of the two values.
+func watson9CGCentralSidedProbes(probe *[9]float64, i int, fx, h, lower, upper float64) (slope, second, size float64) {
+	xi := probe[i]
+	near, a := watson9CGCentralProbeStep(xi, h, lower, upper)
+	far, b := watson9CGCentralProbeStep(xi, 2*h, lower, upper)
+	probe[i] = near
+	fNear := Watson9(probe)
+	probe[i] = far
+	fFar := Watson9(probe)
+	probe[i] = xi
+	slope, second = watson9CGCentralParabola(fx, a, fNear, b, fFar)
+	return slope, second, watson9CGCentralLarger(watson9CGCentralMagnitude(fNear), watson9CGCentralMagnitude(fFar))
+}
+
+// watson9CGCentralParabola returns the first and second derivatives at 0 of the parabola
+// through (0, f0), (a, fa) and (b, fb), for probes on one side of a bound.
+// With b = 2a they are the three-point endpoint formulas
+// f′ ≈ (−3f0 + 4fa − fb)/(2a), error a²|f‴|/3, and
+// f″ ≈ (f0 − 2fa + fb)/a² (Burden & Faires, Numerical Analysis, §4.1
+// and §4.1's second-derivative formulas, from memory); written for unequal
+// a and b, so that the representable steps can be used.
+func watson9CGCentralParabola(f0, a, fa, b, fb float64) (slope, second float64) {
+	slope = -(a+b)/(a*b)*f0 + b/(a*(b-a))*fa - a/(b*(b-a))*fb
+	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
+	return slope, second
 }
 
 // watson9CGCentralDirection is nonlinear conjugate gradients with the Polak–Ribière
@@ -650,13 +765,13 @@ func watson9CGCentralConfirmGradient(x *[9]float64, fx float64, g, e *[9]float64
 		wide.ratio[i] *= 2
 	}
 	var doubled [9]float64
-	watson9CGCentralDerivative(x, fx, g, diffs)
-	watson9CGCentralDerivative(x, fx, &doubled, &wide)
+	calls += watson9CGCentralDerivative(x, fx, g, diffs)
+	calls += watson9CGCentralDerivative(x, fx, &doubled, &wide)
 	watson9CGCentralGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * watson9CGCentralAbs(g[i]-doubled[i])
 	}
-	return calls + 2*watson9CGCentralDerivativeCost, true
+	return calls, true
 }
 
 // watson9CGCentralGradientError bounds each central difference's error by twice its
@@ -666,8 +781,16 @@ func watson9CGCentralConfirmGradient(x *[9]float64, fx float64, g, e *[9]float64
 func watson9CGCentralGradientError(x *[9]float64, fx float64, g, e *[9]float64, diffs *watson9CGCentralDifferences) {
 	noise := watson9CGCentralNoiseLevel(x, fx, g)
 	for i := range e {
-		h := diffs.ratio[i] * watson9CGCentralLarger(1, watson9CGCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		h, oneSided := watson9CGCentralCentralInterval(x, i, diffs)
+		h = watson9CGCentralAbs(h)
+		switch {
+		case h == 0:
+			e[i] = 0 // fixed by equal bounds
+		case oneSided:
+			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+		default:
+			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		}
 	}
 }
 
@@ -689,6 +812,11 @@ func watson9CGCentralRoundingFloor(x, g, e *[9]float64, diffs *watson9CGCentralD
 // calibration, which watson9CGCentralConfirmGradient has just made at x.
 func watson9CGCentralDiagonalCurvature(x, g *[9]float64, diffs *watson9CGCentralDifferences, h *[9]float64) {
 	*h = diffs.second
+}
+
+// watson9CGCentralStationarity measures the gradient itself.
+func watson9CGCentralStationarity(g, e, x *[9]float64, fx float64, b *watson9CGCentralBox) (measure, floor float64) {
+	return watson9CGCentralGradientMeasure(g, e, x, fx)
 }
 
 // watson9CGCentralGradientMeasure is the scale-free measure
@@ -724,6 +852,14 @@ func watson9CGCentralStepWithin(s, x *[9]float64, tol float64) bool {
 	return true
 }
 
+// watson9CGCentralCurvaturePair: without bounds the pair is used as it is.
+func watson9CGCentralCurvaturePair(s, y, x *[9]float64, b *watson9CGCentralBox) {}
+
+// watson9CGCentralSearchDirection is the direction's own.
+func watson9CGCentralSearchDirection(dir *watson9CGCentralDirection, x, g, d *[9]float64, b *watson9CGCentralBox) {
+	dir.compute(g, d)
+}
+
 // watson9CGCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func watson9CGCentralTinyStep(x, d *[9]float64, tol float64) float64 {
@@ -751,7 +887,10 @@ func watson9CGCentralTinyStep(x, d *[9]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (watson9CGCentralStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -760,13 +899,17 @@ func watson9CGCentralTinyStep(x, d *[9]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func watson9CGCentralLineSearch(x *[9]float64, fx float64, d *[9]float64, slope, first, tiny float64, budget int, xt, gt *[9]float64, diffs *watson9CGCentralDifferences) watson9CGCentralLineResult {
+func watson9CGCentralLineSearch(x *[9]float64, fx float64, g, d *[9]float64, slope, first, tiny float64, budget int, xt, gt *[9]float64, diffs *watson9CGCentralDifferences) watson9CGCentralLineResult {
 	low := watson9CGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high watson9CGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [9]float64                                                // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend watson9CGCentralRiseTrend // of the trials failing sufficient decrease
+	var trend watson9CGCentralRiseTrend                         // of the trials failing sufficient decrease
+	limit := watson9CGCentralStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < watson9CGCentralStepTrials; trial++ {
 		if bracketed && watson9CGCentralAbs(high.step-low.step) <= tiny {
@@ -776,12 +919,12 @@ func watson9CGCentralLineSearch(x *[9]float64, fx float64, d *[9]float64, slope,
 			if low.step == 0 {
 				return watson9CGCentralLineResult{calls: calls, rising: trend.contradicts(), end: watson9CGCentralTinyOrExhausted(watson9CGCentralFinite(high.value))}
 			}
-			return watson9CGCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return watson9CGCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return watson9CGCentralLineResult{calls: calls, end: watson9CGCentralSearchOutOfBudget}
 		}
-		watson9CGCentralMoveTo(xt, x, t, d)
+		watson9CGCentralTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := watson9CGCentralLinePoint{step: t, value: Watson9(xt)}
 		calls++
 		previous := low
@@ -792,8 +935,7 @@ func watson9CGCentralLineSearch(x *[9]float64, fx float64, d *[9]float64, slope,
 			if calls+watson9CGCentralDerivativeCost > budget {
 				return watson9CGCentralLineResult{calls: calls, end: watson9CGCentralSearchOutOfBudget}
 			}
-			watson9CGCentralDerivative(xt, current.value, gt, diffs)
-			calls += watson9CGCentralDerivativeCost
+			calls += watson9CGCentralDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = watson9CGCentralDot(gt, d), true
 			switch {
 			case !watson9CGCentralFinite(current.slope):
@@ -804,18 +946,22 @@ func watson9CGCentralLineSearch(x *[9]float64, fx float64, d *[9]float64, slope,
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return watson9CGCentralLineResult{step: t, value: current.value, calls: calls, gradient: true, end: watson9CGCentralSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = watson9CGCentralZoomTrial(&low, &high)
-		} else {
-			t = watson9CGCentralExpandTrial(&previous, &current)
+		} else if t = watson9CGCentralExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return watson9CGCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return watson9CGCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return watson9CGCentralLineResult{calls: calls, rising: trend.contradicts(), end: watson9CGCentralSearchExhausted}
 }
@@ -902,6 +1048,11 @@ func watson9CGCentralFaithfulStep(x, xt, d *[9]float64, t float64) bool {
 	return true
 }
 
+// watson9CGCentralStepCap: without bounds a step may be as long as the search wants.
+func watson9CGCentralStepCap(x, d *[9]float64, tiny float64, b *watson9CGCentralBox) float64 {
+	return math.Inf(1)
+}
+
 // watson9CGCentralTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -926,10 +1077,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func watson9CGCentralAcceptLow(x, d *[9]float64, low *watson9CGCentralLinePoint, lowGradient *[9]float64, calls int, xt, gt *[9]float64) watson9CGCentralLineResult {
-	watson9CGCentralMoveTo(xt, x, low.step, d)
+func watson9CGCentralAcceptLow(x, d *[9]float64, low *watson9CGCentralLinePoint, lowGradient *[9]float64, calls int, xt, gt *[9]float64, diffs *watson9CGCentralDifferences) watson9CGCentralLineResult {
+	watson9CGCentralTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return watson9CGCentralLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: watson9CGCentralSearchAccepted}
+}
+
+// watson9CGCentralTrialPoint is x + t·d.
+func watson9CGCentralTrialPoint(out, x *[9]float64, t float64, d *[9]float64, b *watson9CGCentralBox) {
+	watson9CGCentralMoveTo(out, x, t, d)
 }
 
 // watson9CGCentralMoveTo sets out = x + t·d.

@@ -88,6 +88,9 @@ func Watson9LBFGSAnalyticDefaultLimits() Watson9LBFGSAnalyticLimits {
 	}
 }
 
+// watson9LBFGSAnalyticBox is empty: mgh.toml sets no bounds on Watson9LBFGSAnalytic.
+type watson9LBFGSAnalyticBox struct{}
+
 // Watson9LBFGSAnalytic minimizes Watson9 from x0, as mgh.toml specifies.
 //
 // Direction lbfgs: limited-memory BFGS: the last `memory` pairs, two-loop recursion (2·memory·dim numbers).
@@ -105,7 +108,7 @@ func Watson9LBFGSAnalytic(x0 [9]float64) Watson9LBFGSAnalyticResult {
 
 // Watson9LBFGSAnalyticWithLimits is Watson9LBFGSAnalytic with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func Watson9LBFGSAnalyticWithLimits(x0 [9]float64, limits Watson9LBFGSAnalyticLimits) Watson9LBFGSAnalyticResult {
-	out := watson9LBFGSAnalyticMinimize(x0, limits)
+	out := watson9LBFGSAnalyticMinimize(x0, limits, watson9LBFGSAnalyticBox{})
 	return Watson9LBFGSAnalyticResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -159,27 +162,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func watson9LBFGSAnalyticMinimize(x0 [9]float64, lim Watson9LBFGSAnalyticLimits) watson9LBFGSAnalyticOutcome {
-	out := watson9LBFGSAnalyticOutcome{x: x0, status: Watson9LBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
+func watson9LBFGSAnalyticMinimize(x0 [9]float64, lim Watson9LBFGSAnalyticLimits, bounds watson9LBFGSAnalyticBox) watson9LBFGSAnalyticOutcome {
+	x := x0
+	watson9LBFGSAnalyticEnterBox(&x, &bounds)
+	out := watson9LBFGSAnalyticOutcome{x: x, status: Watson9LBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := Watson9(&x)
 	out.f, out.evaluations = fx, 1
 	if !watson9LBFGSAnalyticFinite(fx) || !watson9LBFGSAnalyticFiniteVec(&x) {
 		out.status = Watson9LBFGSAnalyticNonFiniteStart
 		return out
 	}
-	var diffs watson9LBFGSAnalyticDifferences
+	diffs := watson9LBFGSAnalyticDifferences{bounds: bounds}
 	calls, ok := watson9LBFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+watson9LBFGSAnalyticDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [9]float64
-	watson9LBFGSAnalyticDerivative(&x, fx, &g, &diffs)
-	out.evaluations += watson9LBFGSAnalyticDerivativeCost
+	out.evaluations += watson9LBFGSAnalyticDerivative(&x, fx, &g, &diffs)
 
 	if !watson9LBFGSAnalyticFiniteVec(&g) {
 		out.status = Watson9LBFGSAnalyticNonFiniteGradient
@@ -212,7 +215,7 @@ func watson9LBFGSAnalyticMinimize(x0 [9]float64, lim Watson9LBFGSAnalyticLimits)
 		case !confirmed:
 			watson9LBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := watson9LBFGSAnalyticGradientMeasure(&g, &e, &x, fx)
+		measure, floor := watson9LBFGSAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, watson9LBFGSAnalyticLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -251,16 +254,17 @@ func watson9LBFGSAnalyticMinimize(x0 [9]float64, lim Watson9LBFGSAnalyticLimits)
 			if rises >= 8 {
 				return best.ending(Watson9LBFGSAnalyticDiverged, out.iterations, out.evaluations)
 			}
+			watson9LBFGSAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(Watson9LBFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		watson9LBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := watson9LBFGSAnalyticDot(&g, &d)
 		if !(now < 0) || !watson9LBFGSAnalyticFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			watson9LBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = watson9LBFGSAnalyticDot(&g, &d)
 		}
 		first := float64(watson9LBFGSAnalyticStepInitial)
@@ -268,7 +272,7 @@ func watson9LBFGSAnalyticMinimize(x0 [9]float64, lim Watson9LBFGSAnalyticLimits)
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := watson9LBFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := watson9LBFGSAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := watson9LBFGSAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case watson9LBFGSAnalyticSearchOutOfBudget:
@@ -304,8 +308,7 @@ func watson9LBFGSAnalyticMinimize(x0 [9]float64, lim Watson9LBFGSAnalyticLimits)
 				}
 				return best.ending(Watson9LBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			watson9LBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += watson9LBFGSAnalyticDerivativeCost
+			out.evaluations += watson9LBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		watson9LBFGSAnalyticDifference(&s, &xt, &x)
@@ -346,6 +349,9 @@ func (o watson9LBFGSAnalyticOutcome) ending(end Watson9LBFGSAnalyticStatus, iter
 	return o
 }
 
+// watson9LBFGSAnalyticEnterBox: without bounds every start is inside.
+func watson9LBFGSAnalyticEnterBox(x *[9]float64, b *watson9LBFGSAnalyticBox) {}
+
 // watson9LBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -368,15 +374,17 @@ func watson9LBFGSAnalyticFiniteVec(x *[9]float64) bool {
 	return true
 }
 
-// watson9LBFGSAnalyticDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// watson9LBFGSAnalyticDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type watson9LBFGSAnalyticDifferences struct {
 	ratio     [9]float64
 	curvature [9]float64
 	second    [9]float64 // |f″| along e_i, for the rounding floor of a stall (see watson9LBFGSAnalyticRoundingFloor)
+	bounds    watson9LBFGSAnalyticBox
 }
 
 // watson9LBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
@@ -385,8 +393,9 @@ func watson9LBFGSAnalyticCalibrate(x *[9]float64, fx float64, diffs *watson9LBFG
 }
 
 // watson9LBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func watson9LBFGSAnalyticDerivative(x *[9]float64, fx float64, g *[9]float64, diffs *watson9LBFGSAnalyticDifferences) {
+func watson9LBFGSAnalyticDerivative(x *[9]float64, fx float64, g *[9]float64, diffs *watson9LBFGSAnalyticDifferences) int {
 	Watson9Grad(x, g)
+	return 0
 }
 
 // watson9LBFGSAnalyticDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
@@ -551,13 +560,13 @@ func watson9LBFGSAnalyticConfirmGradient(x *[9]float64, fx float64, g, e *[9]flo
 		wide.ratio[i] *= 2
 	}
 	var doubled [9]float64
-	watson9LBFGSAnalyticDerivative(x, fx, g, diffs)
-	watson9LBFGSAnalyticDerivative(x, fx, &doubled, &wide)
+	calls += watson9LBFGSAnalyticDerivative(x, fx, g, diffs)
+	calls += watson9LBFGSAnalyticDerivative(x, fx, &doubled, &wide)
 	watson9LBFGSAnalyticGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * watson9LBFGSAnalyticAbs(g[i]-doubled[i])
 	}
-	return calls + 2*watson9LBFGSAnalyticDerivativeCost, true
+	return calls, true
 }
 
 // watson9LBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
@@ -599,18 +608,60 @@ func watson9LBFGSAnalyticDiagonalCurvature(x, g *[9]float64, diffs *watson9LBFGS
 	var moved [9]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := watson9LBFGSAnalyticProbeStep(xi, watson9LBFGSAnalyticSquareRoot(watson9LBFGSAnalyticUnitRoundoff)*watson9LBFGSAnalyticLarger(1, watson9LBFGSAnalyticAbs(xi)))
-		probe[i] = up
-		Watson9Grad(&probe, &moved)
-		h[i] = watson9LBFGSAnalyticAbs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := watson9LBFGSAnalyticCoordinateRange(i, diffs)
+		up, delta := watson9LBFGSAnalyticProbeStep(xi, watson9LBFGSAnalyticOneSide(xi, watson9LBFGSAnalyticSquareRoot(watson9LBFGSAnalyticUnitRoundoff)*watson9LBFGSAnalyticLarger(1, watson9LBFGSAnalyticAbs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			Watson9Grad(&probe, &moved)
+			h[i] = watson9LBFGSAnalyticAbs(moved[i]-g[i]) / watson9LBFGSAnalyticAbs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// watson9LBFGSAnalyticProbeStep returns x_i moved by h, and the step actually representable.
-func watson9LBFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// watson9LBFGSAnalyticCoordinateRange: without bounds any probe is allowed.
+func watson9LBFGSAnalyticCoordinateRange(i int, diffs *watson9LBFGSAnalyticDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// watson9LBFGSAnalyticProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func watson9LBFGSAnalyticProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := watson9LBFGSAnalyticClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// watson9LBFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func watson9LBFGSAnalyticClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// watson9LBFGSAnalyticOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func watson9LBFGSAnalyticOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // watson9LBFGSAnalyticSquareRoot returns √v.
@@ -626,6 +677,11 @@ func watson9LBFGSAnalyticLarger(a, b float64) float64 {
 		return a
 	}
 	return b
+}
+
+// watson9LBFGSAnalyticStationarity measures the gradient itself.
+func watson9LBFGSAnalyticStationarity(g, e, x *[9]float64, fx float64, b *watson9LBFGSAnalyticBox) (measure, floor float64) {
+	return watson9LBFGSAnalyticGradientMeasure(g, e, x, fx)
 }
 
 // watson9LBFGSAnalyticGradientMeasure is the scale-free measure
@@ -661,6 +717,14 @@ func watson9LBFGSAnalyticStepWithin(s, x *[9]float64, tol float64) bool {
 	return true
 }
 
+// watson9LBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
+func watson9LBFGSAnalyticCurvaturePair(s, y, x *[9]float64, b *watson9LBFGSAnalyticBox) {}
+
+// watson9LBFGSAnalyticSearchDirection is the direction's own.
+func watson9LBFGSAnalyticSearchDirection(dir *watson9LBFGSAnalyticDirection, x, g, d *[9]float64, b *watson9LBFGSAnalyticBox) {
+	dir.compute(g, d)
+}
+
 // watson9LBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func watson9LBFGSAnalyticTinyStep(x, d *[9]float64, tol float64) float64 {
@@ -688,7 +752,10 @@ func watson9LBFGSAnalyticTinyStep(x, d *[9]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (watson9LBFGSAnalyticStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -697,13 +764,17 @@ func watson9LBFGSAnalyticTinyStep(x, d *[9]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func watson9LBFGSAnalyticLineSearch(x *[9]float64, fx float64, d *[9]float64, slope, first, tiny float64, budget int, xt, gt *[9]float64, diffs *watson9LBFGSAnalyticDifferences) watson9LBFGSAnalyticLineResult {
+func watson9LBFGSAnalyticLineSearch(x *[9]float64, fx float64, g, d *[9]float64, slope, first, tiny float64, budget int, xt, gt *[9]float64, diffs *watson9LBFGSAnalyticDifferences) watson9LBFGSAnalyticLineResult {
 	low := watson9LBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high watson9LBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [9]float64                                                    // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend watson9LBFGSAnalyticRiseTrend // of the trials failing sufficient decrease
+	var trend watson9LBFGSAnalyticRiseTrend                         // of the trials failing sufficient decrease
+	limit := watson9LBFGSAnalyticStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < watson9LBFGSAnalyticStepTrials; trial++ {
 		if bracketed && watson9LBFGSAnalyticAbs(high.step-low.step) <= tiny {
@@ -713,12 +784,12 @@ func watson9LBFGSAnalyticLineSearch(x *[9]float64, fx float64, d *[9]float64, sl
 			if low.step == 0 {
 				return watson9LBFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: watson9LBFGSAnalyticTinyOrExhausted(watson9LBFGSAnalyticFinite(high.value))}
 			}
-			return watson9LBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return watson9LBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return watson9LBFGSAnalyticLineResult{calls: calls, end: watson9LBFGSAnalyticSearchOutOfBudget}
 		}
-		watson9LBFGSAnalyticMoveTo(xt, x, t, d)
+		watson9LBFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := watson9LBFGSAnalyticLinePoint{step: t, value: Watson9(xt)}
 		calls++
 		previous := low
@@ -729,8 +800,7 @@ func watson9LBFGSAnalyticLineSearch(x *[9]float64, fx float64, d *[9]float64, sl
 			if calls+watson9LBFGSAnalyticDerivativeCost > budget {
 				return watson9LBFGSAnalyticLineResult{calls: calls, end: watson9LBFGSAnalyticSearchOutOfBudget}
 			}
-			watson9LBFGSAnalyticDerivative(xt, current.value, gt, diffs)
-			calls += watson9LBFGSAnalyticDerivativeCost
+			calls += watson9LBFGSAnalyticDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = watson9LBFGSAnalyticDot(gt, d), true
 			switch {
 			case !watson9LBFGSAnalyticFinite(current.slope):
@@ -741,18 +811,22 @@ func watson9LBFGSAnalyticLineSearch(x *[9]float64, fx float64, d *[9]float64, sl
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return watson9LBFGSAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: watson9LBFGSAnalyticSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = watson9LBFGSAnalyticZoomTrial(&low, &high)
-		} else {
-			t = watson9LBFGSAnalyticExpandTrial(&previous, &current)
+		} else if t = watson9LBFGSAnalyticExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return watson9LBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return watson9LBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return watson9LBFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: watson9LBFGSAnalyticSearchExhausted}
 }
@@ -839,6 +913,11 @@ func watson9LBFGSAnalyticFaithfulStep(x, xt, d *[9]float64, t float64) bool {
 	return true
 }
 
+// watson9LBFGSAnalyticStepCap: without bounds a step may be as long as the search wants.
+func watson9LBFGSAnalyticStepCap(x, d *[9]float64, tiny float64, b *watson9LBFGSAnalyticBox) float64 {
+	return math.Inf(1)
+}
+
 // watson9LBFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -863,10 +942,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func watson9LBFGSAnalyticAcceptLow(x, d *[9]float64, low *watson9LBFGSAnalyticLinePoint, lowGradient *[9]float64, calls int, xt, gt *[9]float64) watson9LBFGSAnalyticLineResult {
-	watson9LBFGSAnalyticMoveTo(xt, x, low.step, d)
+func watson9LBFGSAnalyticAcceptLow(x, d *[9]float64, low *watson9LBFGSAnalyticLinePoint, lowGradient *[9]float64, calls int, xt, gt *[9]float64, diffs *watson9LBFGSAnalyticDifferences) watson9LBFGSAnalyticLineResult {
+	watson9LBFGSAnalyticTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return watson9LBFGSAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: watson9LBFGSAnalyticSearchAccepted}
+}
+
+// watson9LBFGSAnalyticTrialPoint is x + t·d.
+func watson9LBFGSAnalyticTrialPoint(out, x *[9]float64, t float64, d *[9]float64, b *watson9LBFGSAnalyticBox) {
+	watson9LBFGSAnalyticMoveTo(out, x, t, d)
 }
 
 // watson9LBFGSAnalyticMoveTo sets out = x + t·d.
@@ -921,21 +1005,6 @@ func watson9LBFGSAnalyticModelMinimizer(a, b *watson9LBFGSAnalyticLinePoint) (t 
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, watson9LBFGSAnalyticFinite(t)
-}
-
-// watson9LBFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func watson9LBFGSAnalyticClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // watson9LBFGSAnalyticExpandTrial picks a larger trial after current met sufficient decrease

@@ -88,6 +88,9 @@ func Watson9LBFGSCentralDefaultLimits() Watson9LBFGSCentralLimits {
 	}
 }
 
+// watson9LBFGSCentralBox is empty: mgh.toml sets no bounds on Watson9LBFGSCentral.
+type watson9LBFGSCentralBox struct{}
+
 // Watson9LBFGSCentral minimizes Watson9 from x0, as mgh.toml specifies.
 //
 // Direction lbfgs: limited-memory BFGS: the last `memory` pairs, two-loop recursion (2·memory·dim numbers).
@@ -105,7 +108,7 @@ func Watson9LBFGSCentral(x0 [9]float64) Watson9LBFGSCentralResult {
 
 // Watson9LBFGSCentralWithLimits is Watson9LBFGSCentral with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func Watson9LBFGSCentralWithLimits(x0 [9]float64, limits Watson9LBFGSCentralLimits) Watson9LBFGSCentralResult {
-	out := watson9LBFGSCentralMinimize(x0, limits)
+	out := watson9LBFGSCentralMinimize(x0, limits, watson9LBFGSCentralBox{})
 	return Watson9LBFGSCentralResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -159,27 +162,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func watson9LBFGSCentralMinimize(x0 [9]float64, lim Watson9LBFGSCentralLimits) watson9LBFGSCentralOutcome {
-	out := watson9LBFGSCentralOutcome{x: x0, status: Watson9LBFGSCentralOutOfEvaluations, gradient: math.NaN()}
+func watson9LBFGSCentralMinimize(x0 [9]float64, lim Watson9LBFGSCentralLimits, bounds watson9LBFGSCentralBox) watson9LBFGSCentralOutcome {
+	x := x0
+	watson9LBFGSCentralEnterBox(&x, &bounds)
+	out := watson9LBFGSCentralOutcome{x: x, status: Watson9LBFGSCentralOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := Watson9(&x)
 	out.f, out.evaluations = fx, 1
 	if !watson9LBFGSCentralFinite(fx) || !watson9LBFGSCentralFiniteVec(&x) {
 		out.status = Watson9LBFGSCentralNonFiniteStart
 		return out
 	}
-	var diffs watson9LBFGSCentralDifferences
+	diffs := watson9LBFGSCentralDifferences{bounds: bounds}
 	calls, ok := watson9LBFGSCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+watson9LBFGSCentralDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [9]float64
-	watson9LBFGSCentralDerivative(&x, fx, &g, &diffs)
-	out.evaluations += watson9LBFGSCentralDerivativeCost
+	out.evaluations += watson9LBFGSCentralDerivative(&x, fx, &g, &diffs)
 
 	if !watson9LBFGSCentralFiniteVec(&g) {
 		out.status = Watson9LBFGSCentralNonFiniteGradient
@@ -212,7 +215,7 @@ func watson9LBFGSCentralMinimize(x0 [9]float64, lim Watson9LBFGSCentralLimits) w
 		case !confirmed:
 			watson9LBFGSCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := watson9LBFGSCentralGradientMeasure(&g, &e, &x, fx)
+		measure, floor := watson9LBFGSCentralStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, watson9LBFGSCentralLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -251,16 +254,17 @@ func watson9LBFGSCentralMinimize(x0 [9]float64, lim Watson9LBFGSCentralLimits) w
 			if rises >= 8 {
 				return best.ending(Watson9LBFGSCentralDiverged, out.iterations, out.evaluations)
 			}
+			watson9LBFGSCentralCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(Watson9LBFGSCentralOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		watson9LBFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := watson9LBFGSCentralDot(&g, &d)
 		if !(now < 0) || !watson9LBFGSCentralFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			watson9LBFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = watson9LBFGSCentralDot(&g, &d)
 		}
 		first := float64(watson9LBFGSCentralStepInitial)
@@ -268,7 +272,7 @@ func watson9LBFGSCentralMinimize(x0 [9]float64, lim Watson9LBFGSCentralLimits) w
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := watson9LBFGSCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := watson9LBFGSCentralLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := watson9LBFGSCentralLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case watson9LBFGSCentralSearchOutOfBudget:
@@ -304,8 +308,7 @@ func watson9LBFGSCentralMinimize(x0 [9]float64, lim Watson9LBFGSCentralLimits) w
 				}
 				return best.ending(Watson9LBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			watson9LBFGSCentralDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += watson9LBFGSCentralDerivativeCost
+			out.evaluations += watson9LBFGSCentralDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		watson9LBFGSCentralDifference(&s, &xt, &x)
@@ -346,6 +349,9 @@ func (o watson9LBFGSCentralOutcome) ending(end Watson9LBFGSCentralStatus, iterat
 	return o
 }
 
+// watson9LBFGSCentralEnterBox: without bounds every start is inside.
+func watson9LBFGSCentralEnterBox(x *[9]float64, b *watson9LBFGSCentralBox) {}
+
 // watson9LBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -368,15 +374,17 @@ func watson9LBFGSCentralFiniteVec(x *[9]float64) bool {
 	return true
 }
 
-// watson9LBFGSCentralDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// watson9LBFGSCentralDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type watson9LBFGSCentralDifferences struct {
 	ratio     [9]float64
 	curvature [9]float64
 	second    [9]float64 // |f″| along e_i, for the rounding floor of a stall (see watson9LBFGSCentralRoundingFloor)
+	bounds    watson9LBFGSCentralBox
 }
 
 // watson9LBFGSCentralCalibrate chooses each central-difference interval from the
@@ -398,19 +406,45 @@ func watson9LBFGSCentralCalibrate(x *[9]float64, fx float64, diffs *watson9LBFGS
 	var slope [9]float64
 	scale := watson9LBFGSCentralAbs(fx)
 	quarter := watson9LBFGSCentralSquareRoot(watson9LBFGSCentralSquareRoot(watson9LBFGSCentralUnitRoundoff)) // u^(1/4)
+	calls := 0
 	for i := range probe {
-		if 4*(i+1) > budget {
-			return 4 * i, false
+		if calls+4 > budget {
+			return calls, false
 		}
 		xi := probe[i]
 		bar := quarter * watson9LBFGSCentralLarger(1, watson9LBFGSCentralAbs(xi))
+		lower, upper := watson9LBFGSCentralCoordinateRange(i, diffs)
+		if xi+2*bar > upper || xi-2*bar < lower {
+			// At a bound: three probes on the side with room, at h, 2h
+			// and 3h, for f‴ ≈ (f(3h) − 3f(2h) + 3f(h) − f(0))/h³ (the
+			// third forward difference).
+			h := watson9LBFGSCentralOneSide(xi, bar, 3, lower, upper)
+			if h == 0 {
+				continue // fixed by equal bounds
+			}
+			var f [3]float64
+			for k := range f {
+				probe[i], _ = watson9LBFGSCentralProbeStep(xi, float64(k+1)*h, lower, upper)
+				f[k] = Watson9(&probe)
+				scale = watson9LBFGSCentralLarger(scale, watson9LBFGSCentralMagnitude(f[k]))
+			}
+			probe[i] = xi
+			calls += 3
+			if watson9LBFGSCentralFinite(f[0]) && watson9LBFGSCentralFinite(f[1]) && watson9LBFGSCentralFinite(f[2]) {
+				diffs.curvature[i] = watson9LBFGSCentralAbs(f[2]-3*f[1]+3*f[0]-fx) / watson9LBFGSCentralAbs(h*h*h)
+				diffs.second[i] = watson9LBFGSCentralAbs(fx-2*f[0]+f[1]) / (h * h)
+				slope[i] = (-3*fx + 4*f[0] - f[1]) / (2 * h)
+			}
+			continue
+		}
 		var f [4]float64
 		for k, m := range [4]float64{2, 1, -1, -2} {
-			probe[i], _ = watson9LBFGSCentralProbeStep(xi, m*bar)
+			probe[i], _ = watson9LBFGSCentralProbeStep(xi, m*bar, lower, upper)
 			f[k] = Watson9(&probe)
 			scale = watson9LBFGSCentralLarger(scale, watson9LBFGSCentralMagnitude(f[k]))
 		}
 		probe[i] = xi
+		calls += 4
 		if watson9LBFGSCentralFinite(f[0]) && watson9LBFGSCentralFinite(f[1]) && watson9LBFGSCentralFinite(f[2]) && watson9LBFGSCentralFinite(f[3]) {
 			diffs.curvature[i] = watson9LBFGSCentralAbs(f[0]-2*f[1]+2*f[2]-f[3]) / (2 * bar * bar * bar)
 			diffs.second[i] = watson9LBFGSCentralAbs(f[1]-2*fx+f[2]) / (bar * bar)
@@ -429,7 +463,7 @@ func watson9LBFGSCentralCalibrate(x *[9]float64, fx float64, diffs *watson9LBFGS
 		diffs.ratio[i] = watson9LBFGSCentralClampBetween(h, 64*watson9LBFGSCentralUnitRoundoff*s, bar) / s
 		diffs.curvature[i] = third
 	}
-	return 4 * len(probe), true
+	return calls, true
 }
 
 // watson9LBFGSCentralAbs returns |v|.
@@ -455,10 +489,48 @@ func watson9LBFGSCentralLarger(a, b float64) float64 {
 	return b
 }
 
-// watson9LBFGSCentralProbeStep returns x_i moved by h, and the step actually representable.
-func watson9LBFGSCentralProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// watson9LBFGSCentralCoordinateRange: without bounds any probe is allowed.
+func watson9LBFGSCentralCoordinateRange(i int, diffs *watson9LBFGSCentralDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// watson9LBFGSCentralOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func watson9LBFGSCentralOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
+}
+
+// watson9LBFGSCentralProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func watson9LBFGSCentralProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := watson9LBFGSCentralClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// watson9LBFGSCentralClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func watson9LBFGSCentralClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
 }
 
 // watson9LBFGSCentralMagnitude is |v| for a finite v and 0 otherwise: a probe that fell
@@ -494,42 +566,85 @@ func watson9LBFGSCentralCubeRoot(v float64) float64 {
 	return math.Cbrt(v)
 }
 
-// watson9LBFGSCentralClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func watson9LBFGSCentralClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
-}
-
 // watson9LBFGSCentralDerivative approximates the gradient by central differences,
 //
 //	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),
 //
 // with the intervals watson9LBFGSCentralCalibrate chose, h_i = ratio_i·max(1, |x_i|)
-// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls; fx is
-// not needed.
-func watson9LBFGSCentralDerivative(x *[9]float64, fx float64, g *[9]float64, diffs *watson9LBFGSCentralDifferences) {
+// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls. Where
+// a bound leaves no room on one side, the three-point endpoint formula on
+// the other side takes its place at the same cost (see parabola); a
+// variable fixed by equal bounds costs nothing and gets 0.
+func watson9LBFGSCentralDerivative(x *[9]float64, fx float64, g *[9]float64, diffs *watson9LBFGSCentralDifferences) int {
 	probe := *x
+	calls := 0
 	for i := range probe {
 		xi := probe[i]
-		h := diffs.ratio[i] * watson9LBFGSCentralLarger(1, watson9LBFGSCentralAbs(xi))
-		up, _ := watson9LBFGSCentralProbeStep(xi, h)
-		down, _ := watson9LBFGSCentralProbeStep(xi, -h)
-		probe[i] = up
-		fUp := Watson9(&probe)
-		probe[i] = down
-		fDown := Watson9(&probe)
-		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
-		probe[i] = xi
+		h, oneSided := watson9LBFGSCentralCentralInterval(x, i, diffs)
+		lower, upper := watson9LBFGSCentralCoordinateRange(i, diffs)
+		switch {
+		case h == 0:
+			g[i] = 0 // fixed by equal bounds
+			continue
+		case oneSided:
+			g[i], _, _ = watson9LBFGSCentralSidedProbes(&probe, i, fx, h, lower, upper) // the three-point endpoint formula
+		default:
+			up, _ := watson9LBFGSCentralProbeStep(xi, h, lower, upper)
+			down, _ := watson9LBFGSCentralProbeStep(xi, -h, lower, upper)
+			probe[i] = up
+			fUp := Watson9(&probe)
+			probe[i] = down
+			fDown := Watson9(&probe)
+			g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+			probe[i] = xi
+		}
+		calls += 2
 	}
+	return calls
+}
+
+// watson9LBFGSCentralCentralInterval is the interval of coordinate i at x, ratio_i·max(1,
+// |x_i|), and whether the box leaves room for probes on both sides; when
+// it does not, the interval is signed towards the side with room for
+// probes at h and 2h, and shortened where the box is narrower than that
+// (see watson9LBFGSCentralOneSide).
+func watson9LBFGSCentralCentralInterval(x *[9]float64, i int, diffs *watson9LBFGSCentralDifferences) (h float64, oneSided bool) {
+	lower, upper := watson9LBFGSCentralCoordinateRange(i, diffs)
+	h = diffs.ratio[i] * watson9LBFGSCentralLarger(1, watson9LBFGSCentralAbs(x[i]))
+	if x[i]+h <= upper && x[i]-h >= lower {
+		return h, false
+	}
+	return watson9LBFGSCentralOneSide(x[i], h, 2, lower, upper), true
+}
+
+// watson9LBFGSCentralSidedProbes evaluates f at x moved along coordinate i by h and by 2h,
+// kept within [lower, upper], and returns the slope and second derivative
+// of the parabola through them and (x, fx) (see parabola), and the larger
+// magnitude of the two values.
+func watson9LBFGSCentralSidedProbes(probe *[9]float64, i int, fx, h, lower, upper float64) (slope, second, size float64) {
+	xi := probe[i]
+	near, a := watson9LBFGSCentralProbeStep(xi, h, lower, upper)
+	far, b := watson9LBFGSCentralProbeStep(xi, 2*h, lower, upper)
+	probe[i] = near
+	fNear := Watson9(probe)
+	probe[i] = far
+	fFar := Watson9(probe)
+	probe[i] = xi
+	slope, second = watson9LBFGSCentralParabola(fx, a, fNear, b, fFar)
+	return slope, second, watson9LBFGSCentralLarger(watson9LBFGSCentralMagnitude(fNear), watson9LBFGSCentralMagnitude(fFar))
+}
+
+// watson9LBFGSCentralParabola returns the first and second derivatives at 0 of the parabola
+// through (0, f0), (a, fa) and (b, fb), for probes on one side of a bound.
+// With b = 2a they are the three-point endpoint formulas
+// f′ ≈ (−3f0 + 4fa − fb)/(2a), error a²|f‴|/3, and
+// f″ ≈ (f0 − 2fa + fb)/a² (Burden & Faires, Numerical Analysis, §4.1
+// and §4.1's second-derivative formulas, from memory); written for unequal
+// a and b, so that the representable steps can be used.
+func watson9LBFGSCentralParabola(f0, a, fa, b, fb float64) (slope, second float64) {
+	slope = -(a+b)/(a*b)*f0 + b/(a*(b-a))*fa - a/(b*(b-a))*fb
+	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
+	return slope, second
 }
 
 // watson9LBFGSCentralDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
@@ -694,13 +809,13 @@ func watson9LBFGSCentralConfirmGradient(x *[9]float64, fx float64, g, e *[9]floa
 		wide.ratio[i] *= 2
 	}
 	var doubled [9]float64
-	watson9LBFGSCentralDerivative(x, fx, g, diffs)
-	watson9LBFGSCentralDerivative(x, fx, &doubled, &wide)
+	calls += watson9LBFGSCentralDerivative(x, fx, g, diffs)
+	calls += watson9LBFGSCentralDerivative(x, fx, &doubled, &wide)
 	watson9LBFGSCentralGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * watson9LBFGSCentralAbs(g[i]-doubled[i])
 	}
-	return calls + 2*watson9LBFGSCentralDerivativeCost, true
+	return calls, true
 }
 
 // watson9LBFGSCentralGradientError bounds each central difference's error by twice its
@@ -710,8 +825,16 @@ func watson9LBFGSCentralConfirmGradient(x *[9]float64, fx float64, g, e *[9]floa
 func watson9LBFGSCentralGradientError(x *[9]float64, fx float64, g, e *[9]float64, diffs *watson9LBFGSCentralDifferences) {
 	noise := watson9LBFGSCentralNoiseLevel(x, fx, g)
 	for i := range e {
-		h := diffs.ratio[i] * watson9LBFGSCentralLarger(1, watson9LBFGSCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		h, oneSided := watson9LBFGSCentralCentralInterval(x, i, diffs)
+		h = watson9LBFGSCentralAbs(h)
+		switch {
+		case h == 0:
+			e[i] = 0 // fixed by equal bounds
+		case oneSided:
+			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+		default:
+			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		}
 	}
 }
 
@@ -733,6 +856,11 @@ func watson9LBFGSCentralRoundingFloor(x, g, e *[9]float64, diffs *watson9LBFGSCe
 // calibration, which watson9LBFGSCentralConfirmGradient has just made at x.
 func watson9LBFGSCentralDiagonalCurvature(x, g *[9]float64, diffs *watson9LBFGSCentralDifferences, h *[9]float64) {
 	*h = diffs.second
+}
+
+// watson9LBFGSCentralStationarity measures the gradient itself.
+func watson9LBFGSCentralStationarity(g, e, x *[9]float64, fx float64, b *watson9LBFGSCentralBox) (measure, floor float64) {
+	return watson9LBFGSCentralGradientMeasure(g, e, x, fx)
 }
 
 // watson9LBFGSCentralGradientMeasure is the scale-free measure
@@ -768,6 +896,14 @@ func watson9LBFGSCentralStepWithin(s, x *[9]float64, tol float64) bool {
 	return true
 }
 
+// watson9LBFGSCentralCurvaturePair: without bounds the pair is used as it is.
+func watson9LBFGSCentralCurvaturePair(s, y, x *[9]float64, b *watson9LBFGSCentralBox) {}
+
+// watson9LBFGSCentralSearchDirection is the direction's own.
+func watson9LBFGSCentralSearchDirection(dir *watson9LBFGSCentralDirection, x, g, d *[9]float64, b *watson9LBFGSCentralBox) {
+	dir.compute(g, d)
+}
+
 // watson9LBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func watson9LBFGSCentralTinyStep(x, d *[9]float64, tol float64) float64 {
@@ -795,7 +931,10 @@ func watson9LBFGSCentralTinyStep(x, d *[9]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (watson9LBFGSCentralStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -804,13 +943,17 @@ func watson9LBFGSCentralTinyStep(x, d *[9]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func watson9LBFGSCentralLineSearch(x *[9]float64, fx float64, d *[9]float64, slope, first, tiny float64, budget int, xt, gt *[9]float64, diffs *watson9LBFGSCentralDifferences) watson9LBFGSCentralLineResult {
+func watson9LBFGSCentralLineSearch(x *[9]float64, fx float64, g, d *[9]float64, slope, first, tiny float64, budget int, xt, gt *[9]float64, diffs *watson9LBFGSCentralDifferences) watson9LBFGSCentralLineResult {
 	low := watson9LBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high watson9LBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [9]float64                                                   // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend watson9LBFGSCentralRiseTrend // of the trials failing sufficient decrease
+	var trend watson9LBFGSCentralRiseTrend                         // of the trials failing sufficient decrease
+	limit := watson9LBFGSCentralStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < watson9LBFGSCentralStepTrials; trial++ {
 		if bracketed && watson9LBFGSCentralAbs(high.step-low.step) <= tiny {
@@ -820,12 +963,12 @@ func watson9LBFGSCentralLineSearch(x *[9]float64, fx float64, d *[9]float64, slo
 			if low.step == 0 {
 				return watson9LBFGSCentralLineResult{calls: calls, rising: trend.contradicts(), end: watson9LBFGSCentralTinyOrExhausted(watson9LBFGSCentralFinite(high.value))}
 			}
-			return watson9LBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return watson9LBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return watson9LBFGSCentralLineResult{calls: calls, end: watson9LBFGSCentralSearchOutOfBudget}
 		}
-		watson9LBFGSCentralMoveTo(xt, x, t, d)
+		watson9LBFGSCentralTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := watson9LBFGSCentralLinePoint{step: t, value: Watson9(xt)}
 		calls++
 		previous := low
@@ -836,8 +979,7 @@ func watson9LBFGSCentralLineSearch(x *[9]float64, fx float64, d *[9]float64, slo
 			if calls+watson9LBFGSCentralDerivativeCost > budget {
 				return watson9LBFGSCentralLineResult{calls: calls, end: watson9LBFGSCentralSearchOutOfBudget}
 			}
-			watson9LBFGSCentralDerivative(xt, current.value, gt, diffs)
-			calls += watson9LBFGSCentralDerivativeCost
+			calls += watson9LBFGSCentralDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = watson9LBFGSCentralDot(gt, d), true
 			switch {
 			case !watson9LBFGSCentralFinite(current.slope):
@@ -848,18 +990,22 @@ func watson9LBFGSCentralLineSearch(x *[9]float64, fx float64, d *[9]float64, slo
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return watson9LBFGSCentralLineResult{step: t, value: current.value, calls: calls, gradient: true, end: watson9LBFGSCentralSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = watson9LBFGSCentralZoomTrial(&low, &high)
-		} else {
-			t = watson9LBFGSCentralExpandTrial(&previous, &current)
+		} else if t = watson9LBFGSCentralExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return watson9LBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return watson9LBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return watson9LBFGSCentralLineResult{calls: calls, rising: trend.contradicts(), end: watson9LBFGSCentralSearchExhausted}
 }
@@ -946,6 +1092,11 @@ func watson9LBFGSCentralFaithfulStep(x, xt, d *[9]float64, t float64) bool {
 	return true
 }
 
+// watson9LBFGSCentralStepCap: without bounds a step may be as long as the search wants.
+func watson9LBFGSCentralStepCap(x, d *[9]float64, tiny float64, b *watson9LBFGSCentralBox) float64 {
+	return math.Inf(1)
+}
+
 // watson9LBFGSCentralTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -970,10 +1121,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func watson9LBFGSCentralAcceptLow(x, d *[9]float64, low *watson9LBFGSCentralLinePoint, lowGradient *[9]float64, calls int, xt, gt *[9]float64) watson9LBFGSCentralLineResult {
-	watson9LBFGSCentralMoveTo(xt, x, low.step, d)
+func watson9LBFGSCentralAcceptLow(x, d *[9]float64, low *watson9LBFGSCentralLinePoint, lowGradient *[9]float64, calls int, xt, gt *[9]float64, diffs *watson9LBFGSCentralDifferences) watson9LBFGSCentralLineResult {
+	watson9LBFGSCentralTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return watson9LBFGSCentralLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: watson9LBFGSCentralSearchAccepted}
+}
+
+// watson9LBFGSCentralTrialPoint is x + t·d.
+func watson9LBFGSCentralTrialPoint(out, x *[9]float64, t float64, d *[9]float64, b *watson9LBFGSCentralBox) {
+	watson9LBFGSCentralMoveTo(out, x, t, d)
 }
 
 // watson9LBFGSCentralMoveTo sets out = x + t·d.

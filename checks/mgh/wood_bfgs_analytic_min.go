@@ -88,6 +88,9 @@ func WoodBFGSAnalyticDefaultLimits() WoodBFGSAnalyticLimits {
 	}
 }
 
+// woodBFGSAnalyticBox is empty: mgh.toml sets no bounds on WoodBFGSAnalytic.
+type woodBFGSAnalyticBox struct{}
+
 // WoodBFGSAnalytic minimizes Wood from x0, as mgh.toml specifies.
 //
 // Direction bfgs: BFGS quasi-Newton with a dense inverse-Hessian approximation (dim² numbers).
@@ -105,7 +108,7 @@ func WoodBFGSAnalytic(x0 [4]float64) WoodBFGSAnalyticResult {
 
 // WoodBFGSAnalyticWithLimits is WoodBFGSAnalytic with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func WoodBFGSAnalyticWithLimits(x0 [4]float64, limits WoodBFGSAnalyticLimits) WoodBFGSAnalyticResult {
-	out := woodBFGSAnalyticMinimize(x0, limits)
+	out := woodBFGSAnalyticMinimize(x0, limits, woodBFGSAnalyticBox{})
 	return WoodBFGSAnalyticResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func woodBFGSAnalyticMinimize(x0 [4]float64, lim WoodBFGSAnalyticLimits) woodBFGSAnalyticOutcome {
-	out := woodBFGSAnalyticOutcome{x: x0, status: WoodBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
+func woodBFGSAnalyticMinimize(x0 [4]float64, lim WoodBFGSAnalyticLimits, bounds woodBFGSAnalyticBox) woodBFGSAnalyticOutcome {
+	x := x0
+	woodBFGSAnalyticEnterBox(&x, &bounds)
+	out := woodBFGSAnalyticOutcome{x: x, status: WoodBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := Wood(&x)
 	out.f, out.evaluations = fx, 1
 	if !woodBFGSAnalyticFinite(fx) || !woodBFGSAnalyticFiniteVec(&x) {
 		out.status = WoodBFGSAnalyticNonFiniteStart
 		return out
 	}
-	var diffs woodBFGSAnalyticDifferences
+	diffs := woodBFGSAnalyticDifferences{bounds: bounds}
 	calls, ok := woodBFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+woodBFGSAnalyticDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [4]float64
-	woodBFGSAnalyticDerivative(&x, fx, &g, &diffs)
-	out.evaluations += woodBFGSAnalyticDerivativeCost
+	out.evaluations += woodBFGSAnalyticDerivative(&x, fx, &g, &diffs)
 
 	if !woodBFGSAnalyticFiniteVec(&g) {
 		out.status = WoodBFGSAnalyticNonFiniteGradient
@@ -211,7 +214,7 @@ func woodBFGSAnalyticMinimize(x0 [4]float64, lim WoodBFGSAnalyticLimits) woodBFG
 		case !confirmed:
 			woodBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := woodBFGSAnalyticGradientMeasure(&g, &e, &x, fx)
+		measure, floor := woodBFGSAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, woodBFGSAnalyticLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func woodBFGSAnalyticMinimize(x0 [4]float64, lim WoodBFGSAnalyticLimits) woodBFG
 			if rises >= 8 {
 				return best.ending(WoodBFGSAnalyticDiverged, out.iterations, out.evaluations)
 			}
+			woodBFGSAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(WoodBFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		woodBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := woodBFGSAnalyticDot(&g, &d)
 		if !(now < 0) || !woodBFGSAnalyticFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			woodBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = woodBFGSAnalyticDot(&g, &d)
 		}
 		first := float64(woodBFGSAnalyticStepInitial)
@@ -267,7 +271,7 @@ func woodBFGSAnalyticMinimize(x0 [4]float64, lim WoodBFGSAnalyticLimits) woodBFG
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := woodBFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := woodBFGSAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := woodBFGSAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case woodBFGSAnalyticSearchOutOfBudget:
@@ -303,8 +307,7 @@ func woodBFGSAnalyticMinimize(x0 [4]float64, lim WoodBFGSAnalyticLimits) woodBFG
 				}
 				return best.ending(WoodBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			woodBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += woodBFGSAnalyticDerivativeCost
+			out.evaluations += woodBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		woodBFGSAnalyticDifference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o woodBFGSAnalyticOutcome) ending(end WoodBFGSAnalyticStatus, iterations, 
 	return o
 }
 
+// woodBFGSAnalyticEnterBox: without bounds every start is inside.
+func woodBFGSAnalyticEnterBox(x *[4]float64, b *woodBFGSAnalyticBox) {}
+
 // woodBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func woodBFGSAnalyticFiniteVec(x *[4]float64) bool {
 	return true
 }
 
-// woodBFGSAnalyticDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// woodBFGSAnalyticDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type woodBFGSAnalyticDifferences struct {
 	ratio     [4]float64
 	curvature [4]float64
 	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see woodBFGSAnalyticRoundingFloor)
+	bounds    woodBFGSAnalyticBox
 }
 
 // woodBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
@@ -384,8 +392,9 @@ func woodBFGSAnalyticCalibrate(x *[4]float64, fx float64, diffs *woodBFGSAnalyti
 }
 
 // woodBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func woodBFGSAnalyticDerivative(x *[4]float64, fx float64, g *[4]float64, diffs *woodBFGSAnalyticDifferences) {
+func woodBFGSAnalyticDerivative(x *[4]float64, fx float64, g *[4]float64, diffs *woodBFGSAnalyticDifferences) int {
 	WoodGrad(x, g)
+	return 0
 }
 
 // woodBFGSAnalyticDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
@@ -525,13 +534,13 @@ func woodBFGSAnalyticConfirmGradient(x *[4]float64, fx float64, g, e *[4]float64
 		wide.ratio[i] *= 2
 	}
 	var doubled [4]float64
-	woodBFGSAnalyticDerivative(x, fx, g, diffs)
-	woodBFGSAnalyticDerivative(x, fx, &doubled, &wide)
+	calls += woodBFGSAnalyticDerivative(x, fx, g, diffs)
+	calls += woodBFGSAnalyticDerivative(x, fx, &doubled, &wide)
 	woodBFGSAnalyticGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * woodBFGSAnalyticAbs(g[i]-doubled[i])
 	}
-	return calls + 2*woodBFGSAnalyticDerivativeCost, true
+	return calls, true
 }
 
 // woodBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
@@ -573,18 +582,60 @@ func woodBFGSAnalyticDiagonalCurvature(x, g *[4]float64, diffs *woodBFGSAnalytic
 	var moved [4]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := woodBFGSAnalyticProbeStep(xi, woodBFGSAnalyticSquareRoot(woodBFGSAnalyticUnitRoundoff)*woodBFGSAnalyticLarger(1, woodBFGSAnalyticAbs(xi)))
-		probe[i] = up
-		WoodGrad(&probe, &moved)
-		h[i] = woodBFGSAnalyticAbs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := woodBFGSAnalyticCoordinateRange(i, diffs)
+		up, delta := woodBFGSAnalyticProbeStep(xi, woodBFGSAnalyticOneSide(xi, woodBFGSAnalyticSquareRoot(woodBFGSAnalyticUnitRoundoff)*woodBFGSAnalyticLarger(1, woodBFGSAnalyticAbs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			WoodGrad(&probe, &moved)
+			h[i] = woodBFGSAnalyticAbs(moved[i]-g[i]) / woodBFGSAnalyticAbs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// woodBFGSAnalyticProbeStep returns x_i moved by h, and the step actually representable.
-func woodBFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// woodBFGSAnalyticCoordinateRange: without bounds any probe is allowed.
+func woodBFGSAnalyticCoordinateRange(i int, diffs *woodBFGSAnalyticDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// woodBFGSAnalyticProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func woodBFGSAnalyticProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := woodBFGSAnalyticClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// woodBFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func woodBFGSAnalyticClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// woodBFGSAnalyticOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func woodBFGSAnalyticOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // woodBFGSAnalyticSquareRoot returns √v.
@@ -600,6 +651,11 @@ func woodBFGSAnalyticLarger(a, b float64) float64 {
 		return a
 	}
 	return b
+}
+
+// woodBFGSAnalyticStationarity measures the gradient itself.
+func woodBFGSAnalyticStationarity(g, e, x *[4]float64, fx float64, b *woodBFGSAnalyticBox) (measure, floor float64) {
+	return woodBFGSAnalyticGradientMeasure(g, e, x, fx)
 }
 
 // woodBFGSAnalyticGradientMeasure is the scale-free measure
@@ -635,6 +691,14 @@ func woodBFGSAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
 	return true
 }
 
+// woodBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
+func woodBFGSAnalyticCurvaturePair(s, y, x *[4]float64, b *woodBFGSAnalyticBox) {}
+
+// woodBFGSAnalyticSearchDirection is the direction's own.
+func woodBFGSAnalyticSearchDirection(dir *woodBFGSAnalyticDirection, x, g, d *[4]float64, b *woodBFGSAnalyticBox) {
+	dir.compute(g, d)
+}
+
 // woodBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func woodBFGSAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
@@ -662,7 +726,10 @@ func woodBFGSAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (woodBFGSAnalyticStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -671,13 +738,17 @@ func woodBFGSAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func woodBFGSAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *woodBFGSAnalyticDifferences) woodBFGSAnalyticLineResult {
+func woodBFGSAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *woodBFGSAnalyticDifferences) woodBFGSAnalyticLineResult {
 	low := woodBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high woodBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend woodBFGSAnalyticRiseTrend // of the trials failing sufficient decrease
+	var trend woodBFGSAnalyticRiseTrend                         // of the trials failing sufficient decrease
+	limit := woodBFGSAnalyticStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < woodBFGSAnalyticStepTrials; trial++ {
 		if bracketed && woodBFGSAnalyticAbs(high.step-low.step) <= tiny {
@@ -687,12 +758,12 @@ func woodBFGSAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64, slope,
 			if low.step == 0 {
 				return woodBFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: woodBFGSAnalyticTinyOrExhausted(woodBFGSAnalyticFinite(high.value))}
 			}
-			return woodBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return woodBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return woodBFGSAnalyticLineResult{calls: calls, end: woodBFGSAnalyticSearchOutOfBudget}
 		}
-		woodBFGSAnalyticMoveTo(xt, x, t, d)
+		woodBFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := woodBFGSAnalyticLinePoint{step: t, value: Wood(xt)}
 		calls++
 		previous := low
@@ -703,8 +774,7 @@ func woodBFGSAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64, slope,
 			if calls+woodBFGSAnalyticDerivativeCost > budget {
 				return woodBFGSAnalyticLineResult{calls: calls, end: woodBFGSAnalyticSearchOutOfBudget}
 			}
-			woodBFGSAnalyticDerivative(xt, current.value, gt, diffs)
-			calls += woodBFGSAnalyticDerivativeCost
+			calls += woodBFGSAnalyticDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = woodBFGSAnalyticDot(gt, d), true
 			switch {
 			case !woodBFGSAnalyticFinite(current.slope):
@@ -715,18 +785,22 @@ func woodBFGSAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64, slope,
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return woodBFGSAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: woodBFGSAnalyticSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = woodBFGSAnalyticZoomTrial(&low, &high)
-		} else {
-			t = woodBFGSAnalyticExpandTrial(&previous, &current)
+		} else if t = woodBFGSAnalyticExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return woodBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return woodBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return woodBFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: woodBFGSAnalyticSearchExhausted}
 }
@@ -813,6 +887,11 @@ func woodBFGSAnalyticFaithfulStep(x, xt, d *[4]float64, t float64) bool {
 	return true
 }
 
+// woodBFGSAnalyticStepCap: without bounds a step may be as long as the search wants.
+func woodBFGSAnalyticStepCap(x, d *[4]float64, tiny float64, b *woodBFGSAnalyticBox) float64 {
+	return math.Inf(1)
+}
+
 // woodBFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -837,10 +916,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func woodBFGSAnalyticAcceptLow(x, d *[4]float64, low *woodBFGSAnalyticLinePoint, lowGradient *[4]float64, calls int, xt, gt *[4]float64) woodBFGSAnalyticLineResult {
-	woodBFGSAnalyticMoveTo(xt, x, low.step, d)
+func woodBFGSAnalyticAcceptLow(x, d *[4]float64, low *woodBFGSAnalyticLinePoint, lowGradient *[4]float64, calls int, xt, gt *[4]float64, diffs *woodBFGSAnalyticDifferences) woodBFGSAnalyticLineResult {
+	woodBFGSAnalyticTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return woodBFGSAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: woodBFGSAnalyticSearchAccepted}
+}
+
+// woodBFGSAnalyticTrialPoint is x + t·d.
+func woodBFGSAnalyticTrialPoint(out, x *[4]float64, t float64, d *[4]float64, b *woodBFGSAnalyticBox) {
+	woodBFGSAnalyticMoveTo(out, x, t, d)
 }
 
 // woodBFGSAnalyticMoveTo sets out = x + t·d.
@@ -895,21 +979,6 @@ func woodBFGSAnalyticModelMinimizer(a, b *woodBFGSAnalyticLinePoint) (t float64,
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, woodBFGSAnalyticFinite(t)
-}
-
-// woodBFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func woodBFGSAnalyticClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // woodBFGSAnalyticExpandTrial picks a larger trial after current met sufficient decrease

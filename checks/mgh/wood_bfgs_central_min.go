@@ -88,6 +88,9 @@ func WoodBFGSCentralDefaultLimits() WoodBFGSCentralLimits {
 	}
 }
 
+// woodBFGSCentralBox is empty: mgh.toml sets no bounds on WoodBFGSCentral.
+type woodBFGSCentralBox struct{}
+
 // WoodBFGSCentral minimizes Wood from x0, as mgh.toml specifies.
 //
 // Direction bfgs: BFGS quasi-Newton with a dense inverse-Hessian approximation (dim² numbers).
@@ -105,7 +108,7 @@ func WoodBFGSCentral(x0 [4]float64) WoodBFGSCentralResult {
 
 // WoodBFGSCentralWithLimits is WoodBFGSCentral with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func WoodBFGSCentralWithLimits(x0 [4]float64, limits WoodBFGSCentralLimits) WoodBFGSCentralResult {
-	out := woodBFGSCentralMinimize(x0, limits)
+	out := woodBFGSCentralMinimize(x0, limits, woodBFGSCentralBox{})
 	return WoodBFGSCentralResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func woodBFGSCentralMinimize(x0 [4]float64, lim WoodBFGSCentralLimits) woodBFGSCentralOutcome {
-	out := woodBFGSCentralOutcome{x: x0, status: WoodBFGSCentralOutOfEvaluations, gradient: math.NaN()}
+func woodBFGSCentralMinimize(x0 [4]float64, lim WoodBFGSCentralLimits, bounds woodBFGSCentralBox) woodBFGSCentralOutcome {
+	x := x0
+	woodBFGSCentralEnterBox(&x, &bounds)
+	out := woodBFGSCentralOutcome{x: x, status: WoodBFGSCentralOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := Wood(&x)
 	out.f, out.evaluations = fx, 1
 	if !woodBFGSCentralFinite(fx) || !woodBFGSCentralFiniteVec(&x) {
 		out.status = WoodBFGSCentralNonFiniteStart
 		return out
 	}
-	var diffs woodBFGSCentralDifferences
+	diffs := woodBFGSCentralDifferences{bounds: bounds}
 	calls, ok := woodBFGSCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+woodBFGSCentralDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [4]float64
-	woodBFGSCentralDerivative(&x, fx, &g, &diffs)
-	out.evaluations += woodBFGSCentralDerivativeCost
+	out.evaluations += woodBFGSCentralDerivative(&x, fx, &g, &diffs)
 
 	if !woodBFGSCentralFiniteVec(&g) {
 		out.status = WoodBFGSCentralNonFiniteGradient
@@ -211,7 +214,7 @@ func woodBFGSCentralMinimize(x0 [4]float64, lim WoodBFGSCentralLimits) woodBFGSC
 		case !confirmed:
 			woodBFGSCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := woodBFGSCentralGradientMeasure(&g, &e, &x, fx)
+		measure, floor := woodBFGSCentralStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, woodBFGSCentralLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func woodBFGSCentralMinimize(x0 [4]float64, lim WoodBFGSCentralLimits) woodBFGSC
 			if rises >= 8 {
 				return best.ending(WoodBFGSCentralDiverged, out.iterations, out.evaluations)
 			}
+			woodBFGSCentralCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(WoodBFGSCentralOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		woodBFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := woodBFGSCentralDot(&g, &d)
 		if !(now < 0) || !woodBFGSCentralFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			woodBFGSCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = woodBFGSCentralDot(&g, &d)
 		}
 		first := float64(woodBFGSCentralStepInitial)
@@ -267,7 +271,7 @@ func woodBFGSCentralMinimize(x0 [4]float64, lim WoodBFGSCentralLimits) woodBFGSC
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := woodBFGSCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := woodBFGSCentralLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := woodBFGSCentralLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case woodBFGSCentralSearchOutOfBudget:
@@ -303,8 +307,7 @@ func woodBFGSCentralMinimize(x0 [4]float64, lim WoodBFGSCentralLimits) woodBFGSC
 				}
 				return best.ending(WoodBFGSCentralOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			woodBFGSCentralDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += woodBFGSCentralDerivativeCost
+			out.evaluations += woodBFGSCentralDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		woodBFGSCentralDifference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o woodBFGSCentralOutcome) ending(end WoodBFGSCentralStatus, iterations, ev
 	return o
 }
 
+// woodBFGSCentralEnterBox: without bounds every start is inside.
+func woodBFGSCentralEnterBox(x *[4]float64, b *woodBFGSCentralBox) {}
+
 // woodBFGSCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func woodBFGSCentralFiniteVec(x *[4]float64) bool {
 	return true
 }
 
-// woodBFGSCentralDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// woodBFGSCentralDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type woodBFGSCentralDifferences struct {
 	ratio     [4]float64
 	curvature [4]float64
 	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see woodBFGSCentralRoundingFloor)
+	bounds    woodBFGSCentralBox
 }
 
 // woodBFGSCentralCalibrate chooses each central-difference interval from the
@@ -397,19 +405,45 @@ func woodBFGSCentralCalibrate(x *[4]float64, fx float64, diffs *woodBFGSCentralD
 	var slope [4]float64
 	scale := woodBFGSCentralAbs(fx)
 	quarter := woodBFGSCentralSquareRoot(woodBFGSCentralSquareRoot(woodBFGSCentralUnitRoundoff)) // u^(1/4)
+	calls := 0
 	for i := range probe {
-		if 4*(i+1) > budget {
-			return 4 * i, false
+		if calls+4 > budget {
+			return calls, false
 		}
 		xi := probe[i]
 		bar := quarter * woodBFGSCentralLarger(1, woodBFGSCentralAbs(xi))
+		lower, upper := woodBFGSCentralCoordinateRange(i, diffs)
+		if xi+2*bar > upper || xi-2*bar < lower {
+			// At a bound: three probes on the side with room, at h, 2h
+			// and 3h, for f‴ ≈ (f(3h) − 3f(2h) + 3f(h) − f(0))/h³ (the
+			// third forward difference).
+			h := woodBFGSCentralOneSide(xi, bar, 3, lower, upper)
+			if h == 0 {
+				continue // fixed by equal bounds
+			}
+			var f [3]float64
+			for k := range f {
+				probe[i], _ = woodBFGSCentralProbeStep(xi, float64(k+1)*h, lower, upper)
+				f[k] = Wood(&probe)
+				scale = woodBFGSCentralLarger(scale, woodBFGSCentralMagnitude(f[k]))
+			}
+			probe[i] = xi
+			calls += 3
+			if woodBFGSCentralFinite(f[0]) && woodBFGSCentralFinite(f[1]) && woodBFGSCentralFinite(f[2]) {
+				diffs.curvature[i] = woodBFGSCentralAbs(f[2]-3*f[1]+3*f[0]-fx) / woodBFGSCentralAbs(h*h*h)
+				diffs.second[i] = woodBFGSCentralAbs(fx-2*f[0]+f[1]) / (h * h)
+				slope[i] = (-3*fx + 4*f[0] - f[1]) / (2 * h)
+			}
+			continue
+		}
 		var f [4]float64
 		for k, m := range [4]float64{2, 1, -1, -2} {
-			probe[i], _ = woodBFGSCentralProbeStep(xi, m*bar)
+			probe[i], _ = woodBFGSCentralProbeStep(xi, m*bar, lower, upper)
 			f[k] = Wood(&probe)
 			scale = woodBFGSCentralLarger(scale, woodBFGSCentralMagnitude(f[k]))
 		}
 		probe[i] = xi
+		calls += 4
 		if woodBFGSCentralFinite(f[0]) && woodBFGSCentralFinite(f[1]) && woodBFGSCentralFinite(f[2]) && woodBFGSCentralFinite(f[3]) {
 			diffs.curvature[i] = woodBFGSCentralAbs(f[0]-2*f[1]+2*f[2]-f[3]) / (2 * bar * bar * bar)
 			diffs.second[i] = woodBFGSCentralAbs(f[1]-2*fx+f[2]) / (bar * bar)
@@ -428,7 +462,7 @@ func woodBFGSCentralCalibrate(x *[4]float64, fx float64, diffs *woodBFGSCentralD
 		diffs.ratio[i] = woodBFGSCentralClampBetween(h, 64*woodBFGSCentralUnitRoundoff*s, bar) / s
 		diffs.curvature[i] = third
 	}
-	return 4 * len(probe), true
+	return calls, true
 }
 
 // woodBFGSCentralAbs returns |v|.
@@ -454,10 +488,48 @@ func woodBFGSCentralLarger(a, b float64) float64 {
 	return b
 }
 
-// woodBFGSCentralProbeStep returns x_i moved by h, and the step actually representable.
-func woodBFGSCentralProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// woodBFGSCentralCoordinateRange: without bounds any probe is allowed.
+func woodBFGSCentralCoordinateRange(i int, diffs *woodBFGSCentralDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// woodBFGSCentralOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func woodBFGSCentralOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
+}
+
+// woodBFGSCentralProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func woodBFGSCentralProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := woodBFGSCentralClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// woodBFGSCentralClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func woodBFGSCentralClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
 }
 
 // woodBFGSCentralMagnitude is |v| for a finite v and 0 otherwise: a probe that fell
@@ -493,42 +565,85 @@ func woodBFGSCentralCubeRoot(v float64) float64 {
 	return math.Cbrt(v)
 }
 
-// woodBFGSCentralClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func woodBFGSCentralClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
-}
-
 // woodBFGSCentralDerivative approximates the gradient by central differences,
 //
 //	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),
 //
 // with the intervals woodBFGSCentralCalibrate chose, h_i = ratio_i·max(1, |x_i|)
-// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls; fx is
-// not needed.
-func woodBFGSCentralDerivative(x *[4]float64, fx float64, g *[4]float64, diffs *woodBFGSCentralDifferences) {
+// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls. Where
+// a bound leaves no room on one side, the three-point endpoint formula on
+// the other side takes its place at the same cost (see parabola); a
+// variable fixed by equal bounds costs nothing and gets 0.
+func woodBFGSCentralDerivative(x *[4]float64, fx float64, g *[4]float64, diffs *woodBFGSCentralDifferences) int {
 	probe := *x
+	calls := 0
 	for i := range probe {
 		xi := probe[i]
-		h := diffs.ratio[i] * woodBFGSCentralLarger(1, woodBFGSCentralAbs(xi))
-		up, _ := woodBFGSCentralProbeStep(xi, h)
-		down, _ := woodBFGSCentralProbeStep(xi, -h)
-		probe[i] = up
-		fUp := Wood(&probe)
-		probe[i] = down
-		fDown := Wood(&probe)
-		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
-		probe[i] = xi
+		h, oneSided := woodBFGSCentralCentralInterval(x, i, diffs)
+		lower, upper := woodBFGSCentralCoordinateRange(i, diffs)
+		switch {
+		case h == 0:
+			g[i] = 0 // fixed by equal bounds
+			continue
+		case oneSided:
+			g[i], _, _ = woodBFGSCentralSidedProbes(&probe, i, fx, h, lower, upper) // the three-point endpoint formula
+		default:
+			up, _ := woodBFGSCentralProbeStep(xi, h, lower, upper)
+			down, _ := woodBFGSCentralProbeStep(xi, -h, lower, upper)
+			probe[i] = up
+			fUp := Wood(&probe)
+			probe[i] = down
+			fDown := Wood(&probe)
+			g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+			probe[i] = xi
+		}
+		calls += 2
 	}
+	return calls
+}
+
+// woodBFGSCentralCentralInterval is the interval of coordinate i at x, ratio_i·max(1,
+// |x_i|), and whether the box leaves room for probes on both sides; when
+// it does not, the interval is signed towards the side with room for
+// probes at h and 2h, and shortened where the box is narrower than that
+// (see woodBFGSCentralOneSide).
+func woodBFGSCentralCentralInterval(x *[4]float64, i int, diffs *woodBFGSCentralDifferences) (h float64, oneSided bool) {
+	lower, upper := woodBFGSCentralCoordinateRange(i, diffs)
+	h = diffs.ratio[i] * woodBFGSCentralLarger(1, woodBFGSCentralAbs(x[i]))
+	if x[i]+h <= upper && x[i]-h >= lower {
+		return h, false
+	}
+	return woodBFGSCentralOneSide(x[i], h, 2, lower, upper), true
+}
+
+// woodBFGSCentralSidedProbes evaluates f at x moved along coordinate i by h and by 2h,
+// kept within [lower, upper], and returns the slope and second derivative
+// of the parabola through them and (x, fx) (see parabola), and the larger
+// magnitude of the two values.
+func woodBFGSCentralSidedProbes(probe *[4]float64, i int, fx, h, lower, upper float64) (slope, second, size float64) {
+	xi := probe[i]
+	near, a := woodBFGSCentralProbeStep(xi, h, lower, upper)
+	far, b := woodBFGSCentralProbeStep(xi, 2*h, lower, upper)
+	probe[i] = near
+	fNear := Wood(probe)
+	probe[i] = far
+	fFar := Wood(probe)
+	probe[i] = xi
+	slope, second = woodBFGSCentralParabola(fx, a, fNear, b, fFar)
+	return slope, second, woodBFGSCentralLarger(woodBFGSCentralMagnitude(fNear), woodBFGSCentralMagnitude(fFar))
+}
+
+// woodBFGSCentralParabola returns the first and second derivatives at 0 of the parabola
+// through (0, f0), (a, fa) and (b, fb), for probes on one side of a bound.
+// With b = 2a they are the three-point endpoint formulas
+// f′ ≈ (−3f0 + 4fa − fb)/(2a), error a²|f‴|/3, and
+// f″ ≈ (f0 − 2fa + fb)/a² (Burden & Faires, Numerical Analysis, §4.1
+// and §4.1's second-derivative formulas, from memory); written for unequal
+// a and b, so that the representable steps can be used.
+func woodBFGSCentralParabola(f0, a, fa, b, fb float64) (slope, second float64) {
+	slope = -(a+b)/(a*b)*f0 + b/(a*(b-a))*fa - a/(b*(b-a))*fb
+	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
+	return slope, second
 }
 
 // woodBFGSCentralDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
@@ -668,13 +783,13 @@ func woodBFGSCentralConfirmGradient(x *[4]float64, fx float64, g, e *[4]float64,
 		wide.ratio[i] *= 2
 	}
 	var doubled [4]float64
-	woodBFGSCentralDerivative(x, fx, g, diffs)
-	woodBFGSCentralDerivative(x, fx, &doubled, &wide)
+	calls += woodBFGSCentralDerivative(x, fx, g, diffs)
+	calls += woodBFGSCentralDerivative(x, fx, &doubled, &wide)
 	woodBFGSCentralGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * woodBFGSCentralAbs(g[i]-doubled[i])
 	}
-	return calls + 2*woodBFGSCentralDerivativeCost, true
+	return calls, true
 }
 
 // woodBFGSCentralGradientError bounds each central difference's error by twice its
@@ -684,8 +799,16 @@ func woodBFGSCentralConfirmGradient(x *[4]float64, fx float64, g, e *[4]float64,
 func woodBFGSCentralGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *woodBFGSCentralDifferences) {
 	noise := woodBFGSCentralNoiseLevel(x, fx, g)
 	for i := range e {
-		h := diffs.ratio[i] * woodBFGSCentralLarger(1, woodBFGSCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		h, oneSided := woodBFGSCentralCentralInterval(x, i, diffs)
+		h = woodBFGSCentralAbs(h)
+		switch {
+		case h == 0:
+			e[i] = 0 // fixed by equal bounds
+		case oneSided:
+			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+		default:
+			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		}
 	}
 }
 
@@ -707,6 +830,11 @@ func woodBFGSCentralRoundingFloor(x, g, e *[4]float64, diffs *woodBFGSCentralDif
 // calibration, which woodBFGSCentralConfirmGradient has just made at x.
 func woodBFGSCentralDiagonalCurvature(x, g *[4]float64, diffs *woodBFGSCentralDifferences, h *[4]float64) {
 	*h = diffs.second
+}
+
+// woodBFGSCentralStationarity measures the gradient itself.
+func woodBFGSCentralStationarity(g, e, x *[4]float64, fx float64, b *woodBFGSCentralBox) (measure, floor float64) {
+	return woodBFGSCentralGradientMeasure(g, e, x, fx)
 }
 
 // woodBFGSCentralGradientMeasure is the scale-free measure
@@ -742,6 +870,14 @@ func woodBFGSCentralStepWithin(s, x *[4]float64, tol float64) bool {
 	return true
 }
 
+// woodBFGSCentralCurvaturePair: without bounds the pair is used as it is.
+func woodBFGSCentralCurvaturePair(s, y, x *[4]float64, b *woodBFGSCentralBox) {}
+
+// woodBFGSCentralSearchDirection is the direction's own.
+func woodBFGSCentralSearchDirection(dir *woodBFGSCentralDirection, x, g, d *[4]float64, b *woodBFGSCentralBox) {
+	dir.compute(g, d)
+}
+
 // woodBFGSCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func woodBFGSCentralTinyStep(x, d *[4]float64, tol float64) float64 {
@@ -769,7 +905,10 @@ func woodBFGSCentralTinyStep(x, d *[4]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (woodBFGSCentralStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -778,13 +917,17 @@ func woodBFGSCentralTinyStep(x, d *[4]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func woodBFGSCentralLineSearch(x *[4]float64, fx float64, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *woodBFGSCentralDifferences) woodBFGSCentralLineResult {
+func woodBFGSCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *woodBFGSCentralDifferences) woodBFGSCentralLineResult {
 	low := woodBFGSCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high woodBFGSCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                               // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend woodBFGSCentralRiseTrend // of the trials failing sufficient decrease
+	var trend woodBFGSCentralRiseTrend                         // of the trials failing sufficient decrease
+	limit := woodBFGSCentralStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < woodBFGSCentralStepTrials; trial++ {
 		if bracketed && woodBFGSCentralAbs(high.step-low.step) <= tiny {
@@ -794,12 +937,12 @@ func woodBFGSCentralLineSearch(x *[4]float64, fx float64, d *[4]float64, slope, 
 			if low.step == 0 {
 				return woodBFGSCentralLineResult{calls: calls, rising: trend.contradicts(), end: woodBFGSCentralTinyOrExhausted(woodBFGSCentralFinite(high.value))}
 			}
-			return woodBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return woodBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return woodBFGSCentralLineResult{calls: calls, end: woodBFGSCentralSearchOutOfBudget}
 		}
-		woodBFGSCentralMoveTo(xt, x, t, d)
+		woodBFGSCentralTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := woodBFGSCentralLinePoint{step: t, value: Wood(xt)}
 		calls++
 		previous := low
@@ -810,8 +953,7 @@ func woodBFGSCentralLineSearch(x *[4]float64, fx float64, d *[4]float64, slope, 
 			if calls+woodBFGSCentralDerivativeCost > budget {
 				return woodBFGSCentralLineResult{calls: calls, end: woodBFGSCentralSearchOutOfBudget}
 			}
-			woodBFGSCentralDerivative(xt, current.value, gt, diffs)
-			calls += woodBFGSCentralDerivativeCost
+			calls += woodBFGSCentralDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = woodBFGSCentralDot(gt, d), true
 			switch {
 			case !woodBFGSCentralFinite(current.slope):
@@ -822,18 +964,22 @@ func woodBFGSCentralLineSearch(x *[4]float64, fx float64, d *[4]float64, slope, 
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return woodBFGSCentralLineResult{step: t, value: current.value, calls: calls, gradient: true, end: woodBFGSCentralSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = woodBFGSCentralZoomTrial(&low, &high)
-		} else {
-			t = woodBFGSCentralExpandTrial(&previous, &current)
+		} else if t = woodBFGSCentralExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return woodBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return woodBFGSCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return woodBFGSCentralLineResult{calls: calls, rising: trend.contradicts(), end: woodBFGSCentralSearchExhausted}
 }
@@ -920,6 +1066,11 @@ func woodBFGSCentralFaithfulStep(x, xt, d *[4]float64, t float64) bool {
 	return true
 }
 
+// woodBFGSCentralStepCap: without bounds a step may be as long as the search wants.
+func woodBFGSCentralStepCap(x, d *[4]float64, tiny float64, b *woodBFGSCentralBox) float64 {
+	return math.Inf(1)
+}
+
 // woodBFGSCentralTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -944,10 +1095,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func woodBFGSCentralAcceptLow(x, d *[4]float64, low *woodBFGSCentralLinePoint, lowGradient *[4]float64, calls int, xt, gt *[4]float64) woodBFGSCentralLineResult {
-	woodBFGSCentralMoveTo(xt, x, low.step, d)
+func woodBFGSCentralAcceptLow(x, d *[4]float64, low *woodBFGSCentralLinePoint, lowGradient *[4]float64, calls int, xt, gt *[4]float64, diffs *woodBFGSCentralDifferences) woodBFGSCentralLineResult {
+	woodBFGSCentralTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return woodBFGSCentralLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: woodBFGSCentralSearchAccepted}
+}
+
+// woodBFGSCentralTrialPoint is x + t·d.
+func woodBFGSCentralTrialPoint(out, x *[4]float64, t float64, d *[4]float64, b *woodBFGSCentralBox) {
+	woodBFGSCentralMoveTo(out, x, t, d)
 }
 
 // woodBFGSCentralMoveTo sets out = x + t·d.

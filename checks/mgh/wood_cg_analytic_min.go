@@ -88,6 +88,9 @@ func WoodCGAnalyticDefaultLimits() WoodCGAnalyticLimits {
 	}
 }
 
+// woodCGAnalyticBox is empty: mgh.toml sets no bounds on WoodCGAnalytic.
+type woodCGAnalyticBox struct{}
+
 // WoodCGAnalytic minimizes Wood from x0, as mgh.toml specifies.
 //
 // Direction cg: nonlinear conjugate gradients, Polak–Ribière clipped at zero (PR+), restarted every dim steps.
@@ -105,7 +108,7 @@ func WoodCGAnalytic(x0 [4]float64) WoodCGAnalyticResult {
 
 // WoodCGAnalyticWithLimits is WoodCGAnalytic with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func WoodCGAnalyticWithLimits(x0 [4]float64, limits WoodCGAnalyticLimits) WoodCGAnalyticResult {
-	out := woodCGAnalyticMinimize(x0, limits)
+	out := woodCGAnalyticMinimize(x0, limits, woodCGAnalyticBox{})
 	return WoodCGAnalyticResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func woodCGAnalyticMinimize(x0 [4]float64, lim WoodCGAnalyticLimits) woodCGAnalyticOutcome {
-	out := woodCGAnalyticOutcome{x: x0, status: WoodCGAnalyticOutOfEvaluations, gradient: math.NaN()}
+func woodCGAnalyticMinimize(x0 [4]float64, lim WoodCGAnalyticLimits, bounds woodCGAnalyticBox) woodCGAnalyticOutcome {
+	x := x0
+	woodCGAnalyticEnterBox(&x, &bounds)
+	out := woodCGAnalyticOutcome{x: x, status: WoodCGAnalyticOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := Wood(&x)
 	out.f, out.evaluations = fx, 1
 	if !woodCGAnalyticFinite(fx) || !woodCGAnalyticFiniteVec(&x) {
 		out.status = WoodCGAnalyticNonFiniteStart
 		return out
 	}
-	var diffs woodCGAnalyticDifferences
+	diffs := woodCGAnalyticDifferences{bounds: bounds}
 	calls, ok := woodCGAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+woodCGAnalyticDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [4]float64
-	woodCGAnalyticDerivative(&x, fx, &g, &diffs)
-	out.evaluations += woodCGAnalyticDerivativeCost
+	out.evaluations += woodCGAnalyticDerivative(&x, fx, &g, &diffs)
 
 	if !woodCGAnalyticFiniteVec(&g) {
 		out.status = WoodCGAnalyticNonFiniteGradient
@@ -211,7 +214,7 @@ func woodCGAnalyticMinimize(x0 [4]float64, lim WoodCGAnalyticLimits) woodCGAnaly
 		case !confirmed:
 			woodCGAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := woodCGAnalyticGradientMeasure(&g, &e, &x, fx)
+		measure, floor := woodCGAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, woodCGAnalyticLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func woodCGAnalyticMinimize(x0 [4]float64, lim WoodCGAnalyticLimits) woodCGAnaly
 			if rises >= 8 {
 				return best.ending(WoodCGAnalyticDiverged, out.iterations, out.evaluations)
 			}
+			woodCGAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(WoodCGAnalyticOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		woodCGAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := woodCGAnalyticDot(&g, &d)
 		if !(now < 0) || !woodCGAnalyticFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			woodCGAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = woodCGAnalyticDot(&g, &d)
 		}
 		first := float64(woodCGAnalyticStepInitial)
@@ -267,7 +271,7 @@ func woodCGAnalyticMinimize(x0 [4]float64, lim WoodCGAnalyticLimits) woodCGAnaly
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := woodCGAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := woodCGAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := woodCGAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case woodCGAnalyticSearchOutOfBudget:
@@ -303,8 +307,7 @@ func woodCGAnalyticMinimize(x0 [4]float64, lim WoodCGAnalyticLimits) woodCGAnaly
 				}
 				return best.ending(WoodCGAnalyticOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			woodCGAnalyticDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += woodCGAnalyticDerivativeCost
+			out.evaluations += woodCGAnalyticDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		woodCGAnalyticDifference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o woodCGAnalyticOutcome) ending(end WoodCGAnalyticStatus, iterations, eval
 	return o
 }
 
+// woodCGAnalyticEnterBox: without bounds every start is inside.
+func woodCGAnalyticEnterBox(x *[4]float64, b *woodCGAnalyticBox) {}
+
 // woodCGAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func woodCGAnalyticFiniteVec(x *[4]float64) bool {
 	return true
 }
 
-// woodCGAnalyticDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// woodCGAnalyticDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type woodCGAnalyticDifferences struct {
 	ratio     [4]float64
 	curvature [4]float64
 	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see woodCGAnalyticRoundingFloor)
+	bounds    woodCGAnalyticBox
 }
 
 // woodCGAnalyticCalibrate: an analytic gradient needs no intervals.
@@ -384,8 +392,9 @@ func woodCGAnalyticCalibrate(x *[4]float64, fx float64, diffs *woodCGAnalyticDif
 }
 
 // woodCGAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func woodCGAnalyticDerivative(x *[4]float64, fx float64, g *[4]float64, diffs *woodCGAnalyticDifferences) {
+func woodCGAnalyticDerivative(x *[4]float64, fx float64, g *[4]float64, diffs *woodCGAnalyticDifferences) int {
 	WoodGrad(x, g)
+	return 0
 }
 
 // woodCGAnalyticDirection is nonlinear conjugate gradients with the Polak–Ribière
@@ -517,13 +526,13 @@ func woodCGAnalyticConfirmGradient(x *[4]float64, fx float64, g, e *[4]float64, 
 		wide.ratio[i] *= 2
 	}
 	var doubled [4]float64
-	woodCGAnalyticDerivative(x, fx, g, diffs)
-	woodCGAnalyticDerivative(x, fx, &doubled, &wide)
+	calls += woodCGAnalyticDerivative(x, fx, g, diffs)
+	calls += woodCGAnalyticDerivative(x, fx, &doubled, &wide)
 	woodCGAnalyticGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * woodCGAnalyticAbs(g[i]-doubled[i])
 	}
-	return calls + 2*woodCGAnalyticDerivativeCost, true
+	return calls, true
 }
 
 // woodCGAnalyticGradientError: the analytic gradient is taken as exact; its error is
@@ -565,23 +574,70 @@ func woodCGAnalyticDiagonalCurvature(x, g *[4]float64, diffs *woodCGAnalyticDiff
 	var moved [4]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := woodCGAnalyticProbeStep(xi, woodCGAnalyticSquareRoot(woodCGAnalyticUnitRoundoff)*woodCGAnalyticLarger(1, woodCGAnalyticAbs(xi)))
-		probe[i] = up
-		WoodGrad(&probe, &moved)
-		h[i] = woodCGAnalyticAbs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := woodCGAnalyticCoordinateRange(i, diffs)
+		up, delta := woodCGAnalyticProbeStep(xi, woodCGAnalyticOneSide(xi, woodCGAnalyticSquareRoot(woodCGAnalyticUnitRoundoff)*woodCGAnalyticLarger(1, woodCGAnalyticAbs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			WoodGrad(&probe, &moved)
+			h[i] = woodCGAnalyticAbs(moved[i]-g[i]) / woodCGAnalyticAbs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// woodCGAnalyticProbeStep returns x_i moved by h, and the step actually representable.
-func woodCGAnalyticProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// woodCGAnalyticCoordinateRange: without bounds any probe is allowed.
+func woodCGAnalyticCoordinateRange(i int, diffs *woodCGAnalyticDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// woodCGAnalyticProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func woodCGAnalyticProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := woodCGAnalyticClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// woodCGAnalyticClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func woodCGAnalyticClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// woodCGAnalyticOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func woodCGAnalyticOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // woodCGAnalyticSquareRoot returns √v.
 func woodCGAnalyticSquareRoot(v float64) float64 {
 	return math.Sqrt(v)
+}
+
+// woodCGAnalyticStationarity measures the gradient itself.
+func woodCGAnalyticStationarity(g, e, x *[4]float64, fx float64, b *woodCGAnalyticBox) (measure, floor float64) {
+	return woodCGAnalyticGradientMeasure(g, e, x, fx)
 }
 
 // woodCGAnalyticGradientMeasure is the scale-free measure
@@ -617,6 +673,14 @@ func woodCGAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
 	return true
 }
 
+// woodCGAnalyticCurvaturePair: without bounds the pair is used as it is.
+func woodCGAnalyticCurvaturePair(s, y, x *[4]float64, b *woodCGAnalyticBox) {}
+
+// woodCGAnalyticSearchDirection is the direction's own.
+func woodCGAnalyticSearchDirection(dir *woodCGAnalyticDirection, x, g, d *[4]float64, b *woodCGAnalyticBox) {
+	dir.compute(g, d)
+}
+
 // woodCGAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func woodCGAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
@@ -644,7 +708,10 @@ func woodCGAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (woodCGAnalyticStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -653,13 +720,17 @@ func woodCGAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func woodCGAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *woodCGAnalyticDifferences) woodCGAnalyticLineResult {
+func woodCGAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *woodCGAnalyticDifferences) woodCGAnalyticLineResult {
 	low := woodCGAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high woodCGAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                              // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend woodCGAnalyticRiseTrend // of the trials failing sufficient decrease
+	var trend woodCGAnalyticRiseTrend                         // of the trials failing sufficient decrease
+	limit := woodCGAnalyticStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < woodCGAnalyticStepTrials; trial++ {
 		if bracketed && woodCGAnalyticAbs(high.step-low.step) <= tiny {
@@ -669,12 +740,12 @@ func woodCGAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64, slope, f
 			if low.step == 0 {
 				return woodCGAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: woodCGAnalyticTinyOrExhausted(woodCGAnalyticFinite(high.value))}
 			}
-			return woodCGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return woodCGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return woodCGAnalyticLineResult{calls: calls, end: woodCGAnalyticSearchOutOfBudget}
 		}
-		woodCGAnalyticMoveTo(xt, x, t, d)
+		woodCGAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := woodCGAnalyticLinePoint{step: t, value: Wood(xt)}
 		calls++
 		previous := low
@@ -685,8 +756,7 @@ func woodCGAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64, slope, f
 			if calls+woodCGAnalyticDerivativeCost > budget {
 				return woodCGAnalyticLineResult{calls: calls, end: woodCGAnalyticSearchOutOfBudget}
 			}
-			woodCGAnalyticDerivative(xt, current.value, gt, diffs)
-			calls += woodCGAnalyticDerivativeCost
+			calls += woodCGAnalyticDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = woodCGAnalyticDot(gt, d), true
 			switch {
 			case !woodCGAnalyticFinite(current.slope):
@@ -697,18 +767,22 @@ func woodCGAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64, slope, f
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return woodCGAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: woodCGAnalyticSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = woodCGAnalyticZoomTrial(&low, &high)
-		} else {
-			t = woodCGAnalyticExpandTrial(&previous, &current)
+		} else if t = woodCGAnalyticExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return woodCGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return woodCGAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return woodCGAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: woodCGAnalyticSearchExhausted}
 }
@@ -795,6 +869,11 @@ func woodCGAnalyticFaithfulStep(x, xt, d *[4]float64, t float64) bool {
 	return true
 }
 
+// woodCGAnalyticStepCap: without bounds a step may be as long as the search wants.
+func woodCGAnalyticStepCap(x, d *[4]float64, tiny float64, b *woodCGAnalyticBox) float64 {
+	return math.Inf(1)
+}
+
 // woodCGAnalyticTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -819,10 +898,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func woodCGAnalyticAcceptLow(x, d *[4]float64, low *woodCGAnalyticLinePoint, lowGradient *[4]float64, calls int, xt, gt *[4]float64) woodCGAnalyticLineResult {
-	woodCGAnalyticMoveTo(xt, x, low.step, d)
+func woodCGAnalyticAcceptLow(x, d *[4]float64, low *woodCGAnalyticLinePoint, lowGradient *[4]float64, calls int, xt, gt *[4]float64, diffs *woodCGAnalyticDifferences) woodCGAnalyticLineResult {
+	woodCGAnalyticTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return woodCGAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: woodCGAnalyticSearchAccepted}
+}
+
+// woodCGAnalyticTrialPoint is x + t·d.
+func woodCGAnalyticTrialPoint(out, x *[4]float64, t float64, d *[4]float64, b *woodCGAnalyticBox) {
+	woodCGAnalyticMoveTo(out, x, t, d)
 }
 
 // woodCGAnalyticMoveTo sets out = x + t·d.
@@ -877,21 +961,6 @@ func woodCGAnalyticModelMinimizer(a, b *woodCGAnalyticLinePoint) (t float64, ok 
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, woodCGAnalyticFinite(t)
-}
-
-// woodCGAnalyticClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func woodCGAnalyticClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // woodCGAnalyticExpandTrial picks a larger trial after current met sufficient decrease

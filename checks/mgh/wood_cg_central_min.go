@@ -88,6 +88,9 @@ func WoodCGCentralDefaultLimits() WoodCGCentralLimits {
 	}
 }
 
+// woodCGCentralBox is empty: mgh.toml sets no bounds on WoodCGCentral.
+type woodCGCentralBox struct{}
+
 // WoodCGCentral minimizes Wood from x0, as mgh.toml specifies.
 //
 // Direction cg: nonlinear conjugate gradients, Polak–Ribière clipped at zero (PR+), restarted every dim steps.
@@ -105,7 +108,7 @@ func WoodCGCentral(x0 [4]float64) WoodCGCentralResult {
 
 // WoodCGCentralWithLimits is WoodCGCentral with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func WoodCGCentralWithLimits(x0 [4]float64, limits WoodCGCentralLimits) WoodCGCentralResult {
-	out := woodCGCentralMinimize(x0, limits)
+	out := woodCGCentralMinimize(x0, limits, woodCGCentralBox{})
 	return WoodCGCentralResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func woodCGCentralMinimize(x0 [4]float64, lim WoodCGCentralLimits) woodCGCentralOutcome {
-	out := woodCGCentralOutcome{x: x0, status: WoodCGCentralOutOfEvaluations, gradient: math.NaN()}
+func woodCGCentralMinimize(x0 [4]float64, lim WoodCGCentralLimits, bounds woodCGCentralBox) woodCGCentralOutcome {
+	x := x0
+	woodCGCentralEnterBox(&x, &bounds)
+	out := woodCGCentralOutcome{x: x, status: WoodCGCentralOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := Wood(&x)
 	out.f, out.evaluations = fx, 1
 	if !woodCGCentralFinite(fx) || !woodCGCentralFiniteVec(&x) {
 		out.status = WoodCGCentralNonFiniteStart
 		return out
 	}
-	var diffs woodCGCentralDifferences
+	diffs := woodCGCentralDifferences{bounds: bounds}
 	calls, ok := woodCGCentralCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+woodCGCentralDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [4]float64
-	woodCGCentralDerivative(&x, fx, &g, &diffs)
-	out.evaluations += woodCGCentralDerivativeCost
+	out.evaluations += woodCGCentralDerivative(&x, fx, &g, &diffs)
 
 	if !woodCGCentralFiniteVec(&g) {
 		out.status = WoodCGCentralNonFiniteGradient
@@ -211,7 +214,7 @@ func woodCGCentralMinimize(x0 [4]float64, lim WoodCGCentralLimits) woodCGCentral
 		case !confirmed:
 			woodCGCentralGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := woodCGCentralGradientMeasure(&g, &e, &x, fx)
+		measure, floor := woodCGCentralStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, woodCGCentralLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func woodCGCentralMinimize(x0 [4]float64, lim WoodCGCentralLimits) woodCGCentral
 			if rises >= 8 {
 				return best.ending(WoodCGCentralDiverged, out.iterations, out.evaluations)
 			}
+			woodCGCentralCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(WoodCGCentralOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		woodCGCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := woodCGCentralDot(&g, &d)
 		if !(now < 0) || !woodCGCentralFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			woodCGCentralSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = woodCGCentralDot(&g, &d)
 		}
 		first := float64(woodCGCentralStepInitial)
@@ -267,7 +271,7 @@ func woodCGCentralMinimize(x0 [4]float64, lim WoodCGCentralLimits) woodCGCentral
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := woodCGCentralTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := woodCGCentralLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := woodCGCentralLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case woodCGCentralSearchOutOfBudget:
@@ -303,8 +307,7 @@ func woodCGCentralMinimize(x0 [4]float64, lim WoodCGCentralLimits) woodCGCentral
 				}
 				return best.ending(WoodCGCentralOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			woodCGCentralDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += woodCGCentralDerivativeCost
+			out.evaluations += woodCGCentralDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		woodCGCentralDifference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o woodCGCentralOutcome) ending(end WoodCGCentralStatus, iterations, evalua
 	return o
 }
 
+// woodCGCentralEnterBox: without bounds every start is inside.
+func woodCGCentralEnterBox(x *[4]float64, b *woodCGCentralBox) {}
+
 // woodCGCentralFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func woodCGCentralFiniteVec(x *[4]float64) bool {
 	return true
 }
 
-// woodCGCentralDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// woodCGCentralDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type woodCGCentralDifferences struct {
 	ratio     [4]float64
 	curvature [4]float64
 	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see woodCGCentralRoundingFloor)
+	bounds    woodCGCentralBox
 }
 
 // woodCGCentralCalibrate chooses each central-difference interval from the
@@ -397,19 +405,45 @@ func woodCGCentralCalibrate(x *[4]float64, fx float64, diffs *woodCGCentralDiffe
 	var slope [4]float64
 	scale := woodCGCentralAbs(fx)
 	quarter := woodCGCentralSquareRoot(woodCGCentralSquareRoot(woodCGCentralUnitRoundoff)) // u^(1/4)
+	calls := 0
 	for i := range probe {
-		if 4*(i+1) > budget {
-			return 4 * i, false
+		if calls+4 > budget {
+			return calls, false
 		}
 		xi := probe[i]
 		bar := quarter * woodCGCentralLarger(1, woodCGCentralAbs(xi))
+		lower, upper := woodCGCentralCoordinateRange(i, diffs)
+		if xi+2*bar > upper || xi-2*bar < lower {
+			// At a bound: three probes on the side with room, at h, 2h
+			// and 3h, for f‴ ≈ (f(3h) − 3f(2h) + 3f(h) − f(0))/h³ (the
+			// third forward difference).
+			h := woodCGCentralOneSide(xi, bar, 3, lower, upper)
+			if h == 0 {
+				continue // fixed by equal bounds
+			}
+			var f [3]float64
+			for k := range f {
+				probe[i], _ = woodCGCentralProbeStep(xi, float64(k+1)*h, lower, upper)
+				f[k] = Wood(&probe)
+				scale = woodCGCentralLarger(scale, woodCGCentralMagnitude(f[k]))
+			}
+			probe[i] = xi
+			calls += 3
+			if woodCGCentralFinite(f[0]) && woodCGCentralFinite(f[1]) && woodCGCentralFinite(f[2]) {
+				diffs.curvature[i] = woodCGCentralAbs(f[2]-3*f[1]+3*f[0]-fx) / woodCGCentralAbs(h*h*h)
+				diffs.second[i] = woodCGCentralAbs(fx-2*f[0]+f[1]) / (h * h)
+				slope[i] = (-3*fx + 4*f[0] - f[1]) / (2 * h)
+			}
+			continue
+		}
 		var f [4]float64
 		for k, m := range [4]float64{2, 1, -1, -2} {
-			probe[i], _ = woodCGCentralProbeStep(xi, m*bar)
+			probe[i], _ = woodCGCentralProbeStep(xi, m*bar, lower, upper)
 			f[k] = Wood(&probe)
 			scale = woodCGCentralLarger(scale, woodCGCentralMagnitude(f[k]))
 		}
 		probe[i] = xi
+		calls += 4
 		if woodCGCentralFinite(f[0]) && woodCGCentralFinite(f[1]) && woodCGCentralFinite(f[2]) && woodCGCentralFinite(f[3]) {
 			diffs.curvature[i] = woodCGCentralAbs(f[0]-2*f[1]+2*f[2]-f[3]) / (2 * bar * bar * bar)
 			diffs.second[i] = woodCGCentralAbs(f[1]-2*fx+f[2]) / (bar * bar)
@@ -428,7 +462,7 @@ func woodCGCentralCalibrate(x *[4]float64, fx float64, diffs *woodCGCentralDiffe
 		diffs.ratio[i] = woodCGCentralClampBetween(h, 64*woodCGCentralUnitRoundoff*s, bar) / s
 		diffs.curvature[i] = third
 	}
-	return 4 * len(probe), true
+	return calls, true
 }
 
 // woodCGCentralAbs returns |v|.
@@ -454,10 +488,48 @@ func woodCGCentralLarger(a, b float64) float64 {
 	return b
 }
 
-// woodCGCentralProbeStep returns x_i moved by h, and the step actually representable.
-func woodCGCentralProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// woodCGCentralCoordinateRange: without bounds any probe is allowed.
+func woodCGCentralCoordinateRange(i int, diffs *woodCGCentralDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// woodCGCentralOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func woodCGCentralOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
+}
+
+// woodCGCentralProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func woodCGCentralProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := woodCGCentralClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// woodCGCentralClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func woodCGCentralClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
 }
 
 // woodCGCentralMagnitude is |v| for a finite v and 0 otherwise: a probe that fell
@@ -493,42 +565,85 @@ func woodCGCentralCubeRoot(v float64) float64 {
 	return math.Cbrt(v)
 }
 
-// woodCGCentralClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func woodCGCentralClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
-}
-
 // woodCGCentralDerivative approximates the gradient by central differences,
 //
 //	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),
 //
 // with the intervals woodCGCentralCalibrate chose, h_i = ratio_i·max(1, |x_i|)
-// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls; fx is
-// not needed.
-func woodCGCentralDerivative(x *[4]float64, fx float64, g *[4]float64, diffs *woodCGCentralDifferences) {
+// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls. Where
+// a bound leaves no room on one side, the three-point endpoint formula on
+// the other side takes its place at the same cost (see parabola); a
+// variable fixed by equal bounds costs nothing and gets 0.
+func woodCGCentralDerivative(x *[4]float64, fx float64, g *[4]float64, diffs *woodCGCentralDifferences) int {
 	probe := *x
+	calls := 0
 	for i := range probe {
 		xi := probe[i]
-		h := diffs.ratio[i] * woodCGCentralLarger(1, woodCGCentralAbs(xi))
-		up, _ := woodCGCentralProbeStep(xi, h)
-		down, _ := woodCGCentralProbeStep(xi, -h)
-		probe[i] = up
-		fUp := Wood(&probe)
-		probe[i] = down
-		fDown := Wood(&probe)
-		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
-		probe[i] = xi
+		h, oneSided := woodCGCentralCentralInterval(x, i, diffs)
+		lower, upper := woodCGCentralCoordinateRange(i, diffs)
+		switch {
+		case h == 0:
+			g[i] = 0 // fixed by equal bounds
+			continue
+		case oneSided:
+			g[i], _, _ = woodCGCentralSidedProbes(&probe, i, fx, h, lower, upper) // the three-point endpoint formula
+		default:
+			up, _ := woodCGCentralProbeStep(xi, h, lower, upper)
+			down, _ := woodCGCentralProbeStep(xi, -h, lower, upper)
+			probe[i] = up
+			fUp := Wood(&probe)
+			probe[i] = down
+			fDown := Wood(&probe)
+			g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+			probe[i] = xi
+		}
+		calls += 2
 	}
+	return calls
+}
+
+// woodCGCentralCentralInterval is the interval of coordinate i at x, ratio_i·max(1,
+// |x_i|), and whether the box leaves room for probes on both sides; when
+// it does not, the interval is signed towards the side with room for
+// probes at h and 2h, and shortened where the box is narrower than that
+// (see woodCGCentralOneSide).
+func woodCGCentralCentralInterval(x *[4]float64, i int, diffs *woodCGCentralDifferences) (h float64, oneSided bool) {
+	lower, upper := woodCGCentralCoordinateRange(i, diffs)
+	h = diffs.ratio[i] * woodCGCentralLarger(1, woodCGCentralAbs(x[i]))
+	if x[i]+h <= upper && x[i]-h >= lower {
+		return h, false
+	}
+	return woodCGCentralOneSide(x[i], h, 2, lower, upper), true
+}
+
+// woodCGCentralSidedProbes evaluates f at x moved along coordinate i by h and by 2h,
+// kept within [lower, upper], and returns the slope and second derivative
+// of the parabola through them and (x, fx) (see parabola), and the larger
+// magnitude of the two values.
+func woodCGCentralSidedProbes(probe *[4]float64, i int, fx, h, lower, upper float64) (slope, second, size float64) {
+	xi := probe[i]
+	near, a := woodCGCentralProbeStep(xi, h, lower, upper)
+	far, b := woodCGCentralProbeStep(xi, 2*h, lower, upper)
+	probe[i] = near
+	fNear := Wood(probe)
+	probe[i] = far
+	fFar := Wood(probe)
+	probe[i] = xi
+	slope, second = woodCGCentralParabola(fx, a, fNear, b, fFar)
+	return slope, second, woodCGCentralLarger(woodCGCentralMagnitude(fNear), woodCGCentralMagnitude(fFar))
+}
+
+// woodCGCentralParabola returns the first and second derivatives at 0 of the parabola
+// through (0, f0), (a, fa) and (b, fb), for probes on one side of a bound.
+// With b = 2a they are the three-point endpoint formulas
+// f′ ≈ (−3f0 + 4fa − fb)/(2a), error a²|f‴|/3, and
+// f″ ≈ (f0 − 2fa + fb)/a² (Burden & Faires, Numerical Analysis, §4.1
+// and §4.1's second-derivative formulas, from memory); written for unequal
+// a and b, so that the representable steps can be used.
+func woodCGCentralParabola(f0, a, fa, b, fb float64) (slope, second float64) {
+	slope = -(a+b)/(a*b)*f0 + b/(a*(b-a))*fa - a/(b*(b-a))*fb
+	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
+	return slope, second
 }
 
 // woodCGCentralDirection is nonlinear conjugate gradients with the Polak–Ribière
@@ -650,13 +765,13 @@ func woodCGCentralConfirmGradient(x *[4]float64, fx float64, g, e *[4]float64, d
 		wide.ratio[i] *= 2
 	}
 	var doubled [4]float64
-	woodCGCentralDerivative(x, fx, g, diffs)
-	woodCGCentralDerivative(x, fx, &doubled, &wide)
+	calls += woodCGCentralDerivative(x, fx, g, diffs)
+	calls += woodCGCentralDerivative(x, fx, &doubled, &wide)
 	woodCGCentralGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * woodCGCentralAbs(g[i]-doubled[i])
 	}
-	return calls + 2*woodCGCentralDerivativeCost, true
+	return calls, true
 }
 
 // woodCGCentralGradientError bounds each central difference's error by twice its
@@ -666,8 +781,16 @@ func woodCGCentralConfirmGradient(x *[4]float64, fx float64, g, e *[4]float64, d
 func woodCGCentralGradientError(x *[4]float64, fx float64, g, e *[4]float64, diffs *woodCGCentralDifferences) {
 	noise := woodCGCentralNoiseLevel(x, fx, g)
 	for i := range e {
-		h := diffs.ratio[i] * woodCGCentralLarger(1, woodCGCentralAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		h, oneSided := woodCGCentralCentralInterval(x, i, diffs)
+		h = woodCGCentralAbs(h)
+		switch {
+		case h == 0:
+			e[i] = 0 // fixed by equal bounds
+		case oneSided:
+			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+		default:
+			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		}
 	}
 }
 
@@ -689,6 +812,11 @@ func woodCGCentralRoundingFloor(x, g, e *[4]float64, diffs *woodCGCentralDiffere
 // calibration, which woodCGCentralConfirmGradient has just made at x.
 func woodCGCentralDiagonalCurvature(x, g *[4]float64, diffs *woodCGCentralDifferences, h *[4]float64) {
 	*h = diffs.second
+}
+
+// woodCGCentralStationarity measures the gradient itself.
+func woodCGCentralStationarity(g, e, x *[4]float64, fx float64, b *woodCGCentralBox) (measure, floor float64) {
+	return woodCGCentralGradientMeasure(g, e, x, fx)
 }
 
 // woodCGCentralGradientMeasure is the scale-free measure
@@ -724,6 +852,14 @@ func woodCGCentralStepWithin(s, x *[4]float64, tol float64) bool {
 	return true
 }
 
+// woodCGCentralCurvaturePair: without bounds the pair is used as it is.
+func woodCGCentralCurvaturePair(s, y, x *[4]float64, b *woodCGCentralBox) {}
+
+// woodCGCentralSearchDirection is the direction's own.
+func woodCGCentralSearchDirection(dir *woodCGCentralDirection, x, g, d *[4]float64, b *woodCGCentralBox) {
+	dir.compute(g, d)
+}
+
 // woodCGCentralTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func woodCGCentralTinyStep(x, d *[4]float64, tol float64) float64 {
@@ -751,7 +887,10 @@ func woodCGCentralTinyStep(x, d *[4]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (woodCGCentralStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -760,13 +899,17 @@ func woodCGCentralTinyStep(x, d *[4]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func woodCGCentralLineSearch(x *[4]float64, fx float64, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *woodCGCentralDifferences) woodCGCentralLineResult {
+func woodCGCentralLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *woodCGCentralDifferences) woodCGCentralLineResult {
 	low := woodCGCentralLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high woodCGCentralLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                             // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend woodCGCentralRiseTrend // of the trials failing sufficient decrease
+	var trend woodCGCentralRiseTrend                         // of the trials failing sufficient decrease
+	limit := woodCGCentralStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < woodCGCentralStepTrials; trial++ {
 		if bracketed && woodCGCentralAbs(high.step-low.step) <= tiny {
@@ -776,12 +919,12 @@ func woodCGCentralLineSearch(x *[4]float64, fx float64, d *[4]float64, slope, fi
 			if low.step == 0 {
 				return woodCGCentralLineResult{calls: calls, rising: trend.contradicts(), end: woodCGCentralTinyOrExhausted(woodCGCentralFinite(high.value))}
 			}
-			return woodCGCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return woodCGCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return woodCGCentralLineResult{calls: calls, end: woodCGCentralSearchOutOfBudget}
 		}
-		woodCGCentralMoveTo(xt, x, t, d)
+		woodCGCentralTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := woodCGCentralLinePoint{step: t, value: Wood(xt)}
 		calls++
 		previous := low
@@ -792,8 +935,7 @@ func woodCGCentralLineSearch(x *[4]float64, fx float64, d *[4]float64, slope, fi
 			if calls+woodCGCentralDerivativeCost > budget {
 				return woodCGCentralLineResult{calls: calls, end: woodCGCentralSearchOutOfBudget}
 			}
-			woodCGCentralDerivative(xt, current.value, gt, diffs)
-			calls += woodCGCentralDerivativeCost
+			calls += woodCGCentralDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = woodCGCentralDot(gt, d), true
 			switch {
 			case !woodCGCentralFinite(current.slope):
@@ -804,18 +946,22 @@ func woodCGCentralLineSearch(x *[4]float64, fx float64, d *[4]float64, slope, fi
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return woodCGCentralLineResult{step: t, value: current.value, calls: calls, gradient: true, end: woodCGCentralSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = woodCGCentralZoomTrial(&low, &high)
-		} else {
-			t = woodCGCentralExpandTrial(&previous, &current)
+		} else if t = woodCGCentralExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return woodCGCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return woodCGCentralAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return woodCGCentralLineResult{calls: calls, rising: trend.contradicts(), end: woodCGCentralSearchExhausted}
 }
@@ -902,6 +1048,11 @@ func woodCGCentralFaithfulStep(x, xt, d *[4]float64, t float64) bool {
 	return true
 }
 
+// woodCGCentralStepCap: without bounds a step may be as long as the search wants.
+func woodCGCentralStepCap(x, d *[4]float64, tiny float64, b *woodCGCentralBox) float64 {
+	return math.Inf(1)
+}
+
 // woodCGCentralTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -926,10 +1077,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func woodCGCentralAcceptLow(x, d *[4]float64, low *woodCGCentralLinePoint, lowGradient *[4]float64, calls int, xt, gt *[4]float64) woodCGCentralLineResult {
-	woodCGCentralMoveTo(xt, x, low.step, d)
+func woodCGCentralAcceptLow(x, d *[4]float64, low *woodCGCentralLinePoint, lowGradient *[4]float64, calls int, xt, gt *[4]float64, diffs *woodCGCentralDifferences) woodCGCentralLineResult {
+	woodCGCentralTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return woodCGCentralLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: woodCGCentralSearchAccepted}
+}
+
+// woodCGCentralTrialPoint is x + t·d.
+func woodCGCentralTrialPoint(out, x *[4]float64, t float64, d *[4]float64, b *woodCGCentralBox) {
+	woodCGCentralMoveTo(out, x, t, d)
 }
 
 // woodCGCentralMoveTo sets out = x + t·d.

@@ -88,6 +88,9 @@ func WoodLBFGSAnalyticDefaultLimits() WoodLBFGSAnalyticLimits {
 	}
 }
 
+// woodLBFGSAnalyticBox is empty: mgh.toml sets no bounds on WoodLBFGSAnalytic.
+type woodLBFGSAnalyticBox struct{}
+
 // WoodLBFGSAnalytic minimizes Wood from x0, as mgh.toml specifies.
 //
 // Direction lbfgs: limited-memory BFGS: the last `memory` pairs, two-loop recursion (2·memory·dim numbers).
@@ -105,7 +108,7 @@ func WoodLBFGSAnalytic(x0 [4]float64) WoodLBFGSAnalyticResult {
 
 // WoodLBFGSAnalyticWithLimits is WoodLBFGSAnalytic with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func WoodLBFGSAnalyticWithLimits(x0 [4]float64, limits WoodLBFGSAnalyticLimits) WoodLBFGSAnalyticResult {
-	out := woodLBFGSAnalyticMinimize(x0, limits)
+	out := woodLBFGSAnalyticMinimize(x0, limits, woodLBFGSAnalyticBox{})
 	return WoodLBFGSAnalyticResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -159,27 +162,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func woodLBFGSAnalyticMinimize(x0 [4]float64, lim WoodLBFGSAnalyticLimits) woodLBFGSAnalyticOutcome {
-	out := woodLBFGSAnalyticOutcome{x: x0, status: WoodLBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
+func woodLBFGSAnalyticMinimize(x0 [4]float64, lim WoodLBFGSAnalyticLimits, bounds woodLBFGSAnalyticBox) woodLBFGSAnalyticOutcome {
+	x := x0
+	woodLBFGSAnalyticEnterBox(&x, &bounds)
+	out := woodLBFGSAnalyticOutcome{x: x, status: WoodLBFGSAnalyticOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := Wood(&x)
 	out.f, out.evaluations = fx, 1
 	if !woodLBFGSAnalyticFinite(fx) || !woodLBFGSAnalyticFiniteVec(&x) {
 		out.status = WoodLBFGSAnalyticNonFiniteStart
 		return out
 	}
-	var diffs woodLBFGSAnalyticDifferences
+	diffs := woodLBFGSAnalyticDifferences{bounds: bounds}
 	calls, ok := woodLBFGSAnalyticCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+woodLBFGSAnalyticDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [4]float64
-	woodLBFGSAnalyticDerivative(&x, fx, &g, &diffs)
-	out.evaluations += woodLBFGSAnalyticDerivativeCost
+	out.evaluations += woodLBFGSAnalyticDerivative(&x, fx, &g, &diffs)
 
 	if !woodLBFGSAnalyticFiniteVec(&g) {
 		out.status = WoodLBFGSAnalyticNonFiniteGradient
@@ -212,7 +215,7 @@ func woodLBFGSAnalyticMinimize(x0 [4]float64, lim WoodLBFGSAnalyticLimits) woodL
 		case !confirmed:
 			woodLBFGSAnalyticGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := woodLBFGSAnalyticGradientMeasure(&g, &e, &x, fx)
+		measure, floor := woodLBFGSAnalyticStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, woodLBFGSAnalyticLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -251,16 +254,17 @@ func woodLBFGSAnalyticMinimize(x0 [4]float64, lim WoodLBFGSAnalyticLimits) woodL
 			if rises >= 8 {
 				return best.ending(WoodLBFGSAnalyticDiverged, out.iterations, out.evaluations)
 			}
+			woodLBFGSAnalyticCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(WoodLBFGSAnalyticOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		woodLBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := woodLBFGSAnalyticDot(&g, &d)
 		if !(now < 0) || !woodLBFGSAnalyticFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			woodLBFGSAnalyticSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = woodLBFGSAnalyticDot(&g, &d)
 		}
 		first := float64(woodLBFGSAnalyticStepInitial)
@@ -268,7 +272,7 @@ func woodLBFGSAnalyticMinimize(x0 [4]float64, lim WoodLBFGSAnalyticLimits) woodL
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := woodLBFGSAnalyticTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := woodLBFGSAnalyticLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := woodLBFGSAnalyticLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case woodLBFGSAnalyticSearchOutOfBudget:
@@ -304,8 +308,7 @@ func woodLBFGSAnalyticMinimize(x0 [4]float64, lim WoodLBFGSAnalyticLimits) woodL
 				}
 				return best.ending(WoodLBFGSAnalyticOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			woodLBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += woodLBFGSAnalyticDerivativeCost
+			out.evaluations += woodLBFGSAnalyticDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		woodLBFGSAnalyticDifference(&s, &xt, &x)
@@ -346,6 +349,9 @@ func (o woodLBFGSAnalyticOutcome) ending(end WoodLBFGSAnalyticStatus, iterations
 	return o
 }
 
+// woodLBFGSAnalyticEnterBox: without bounds every start is inside.
+func woodLBFGSAnalyticEnterBox(x *[4]float64, b *woodLBFGSAnalyticBox) {}
+
 // woodLBFGSAnalyticFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -368,15 +374,17 @@ func woodLBFGSAnalyticFiniteVec(x *[4]float64) bool {
 	return true
 }
 
-// woodLBFGSAnalyticDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// woodLBFGSAnalyticDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type woodLBFGSAnalyticDifferences struct {
 	ratio     [4]float64
 	curvature [4]float64
 	second    [4]float64 // |f″| along e_i, for the rounding floor of a stall (see woodLBFGSAnalyticRoundingFloor)
+	bounds    woodLBFGSAnalyticBox
 }
 
 // woodLBFGSAnalyticCalibrate: an analytic gradient needs no intervals.
@@ -385,8 +393,9 @@ func woodLBFGSAnalyticCalibrate(x *[4]float64, fx float64, diffs *woodLBFGSAnaly
 }
 
 // woodLBFGSAnalyticDerivative calls the user's gradient; it costs no objective calls.
-func woodLBFGSAnalyticDerivative(x *[4]float64, fx float64, g *[4]float64, diffs *woodLBFGSAnalyticDifferences) {
+func woodLBFGSAnalyticDerivative(x *[4]float64, fx float64, g *[4]float64, diffs *woodLBFGSAnalyticDifferences) int {
 	WoodGrad(x, g)
+	return 0
 }
 
 // woodLBFGSAnalyticDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
@@ -551,13 +560,13 @@ func woodLBFGSAnalyticConfirmGradient(x *[4]float64, fx float64, g, e *[4]float6
 		wide.ratio[i] *= 2
 	}
 	var doubled [4]float64
-	woodLBFGSAnalyticDerivative(x, fx, g, diffs)
-	woodLBFGSAnalyticDerivative(x, fx, &doubled, &wide)
+	calls += woodLBFGSAnalyticDerivative(x, fx, g, diffs)
+	calls += woodLBFGSAnalyticDerivative(x, fx, &doubled, &wide)
 	woodLBFGSAnalyticGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * woodLBFGSAnalyticAbs(g[i]-doubled[i])
 	}
-	return calls + 2*woodLBFGSAnalyticDerivativeCost, true
+	return calls, true
 }
 
 // woodLBFGSAnalyticGradientError: the analytic gradient is taken as exact; its error is
@@ -599,18 +608,60 @@ func woodLBFGSAnalyticDiagonalCurvature(x, g *[4]float64, diffs *woodLBFGSAnalyt
 	var moved [4]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := woodLBFGSAnalyticProbeStep(xi, woodLBFGSAnalyticSquareRoot(woodLBFGSAnalyticUnitRoundoff)*woodLBFGSAnalyticLarger(1, woodLBFGSAnalyticAbs(xi)))
-		probe[i] = up
-		WoodGrad(&probe, &moved)
-		h[i] = woodLBFGSAnalyticAbs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := woodLBFGSAnalyticCoordinateRange(i, diffs)
+		up, delta := woodLBFGSAnalyticProbeStep(xi, woodLBFGSAnalyticOneSide(xi, woodLBFGSAnalyticSquareRoot(woodLBFGSAnalyticUnitRoundoff)*woodLBFGSAnalyticLarger(1, woodLBFGSAnalyticAbs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			WoodGrad(&probe, &moved)
+			h[i] = woodLBFGSAnalyticAbs(moved[i]-g[i]) / woodLBFGSAnalyticAbs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// woodLBFGSAnalyticProbeStep returns x_i moved by h, and the step actually representable.
-func woodLBFGSAnalyticProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// woodLBFGSAnalyticCoordinateRange: without bounds any probe is allowed.
+func woodLBFGSAnalyticCoordinateRange(i int, diffs *woodLBFGSAnalyticDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// woodLBFGSAnalyticProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func woodLBFGSAnalyticProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := woodLBFGSAnalyticClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// woodLBFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func woodLBFGSAnalyticClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// woodLBFGSAnalyticOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func woodLBFGSAnalyticOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // woodLBFGSAnalyticSquareRoot returns √v.
@@ -626,6 +677,11 @@ func woodLBFGSAnalyticLarger(a, b float64) float64 {
 		return a
 	}
 	return b
+}
+
+// woodLBFGSAnalyticStationarity measures the gradient itself.
+func woodLBFGSAnalyticStationarity(g, e, x *[4]float64, fx float64, b *woodLBFGSAnalyticBox) (measure, floor float64) {
+	return woodLBFGSAnalyticGradientMeasure(g, e, x, fx)
 }
 
 // woodLBFGSAnalyticGradientMeasure is the scale-free measure
@@ -661,6 +717,14 @@ func woodLBFGSAnalyticStepWithin(s, x *[4]float64, tol float64) bool {
 	return true
 }
 
+// woodLBFGSAnalyticCurvaturePair: without bounds the pair is used as it is.
+func woodLBFGSAnalyticCurvaturePair(s, y, x *[4]float64, b *woodLBFGSAnalyticBox) {}
+
+// woodLBFGSAnalyticSearchDirection is the direction's own.
+func woodLBFGSAnalyticSearchDirection(dir *woodLBFGSAnalyticDirection, x, g, d *[4]float64, b *woodLBFGSAnalyticBox) {
+	dir.compute(g, d)
+}
+
 // woodLBFGSAnalyticTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func woodLBFGSAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
@@ -688,7 +752,10 @@ func woodLBFGSAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (woodLBFGSAnalyticStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -697,13 +764,17 @@ func woodLBFGSAnalyticTinyStep(x, d *[4]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func woodLBFGSAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *woodLBFGSAnalyticDifferences) woodLBFGSAnalyticLineResult {
+func woodLBFGSAnalyticLineSearch(x *[4]float64, fx float64, g, d *[4]float64, slope, first, tiny float64, budget int, xt, gt *[4]float64, diffs *woodLBFGSAnalyticDifferences) woodLBFGSAnalyticLineResult {
 	low := woodLBFGSAnalyticLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high woodLBFGSAnalyticLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [4]float64                                                 // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend woodLBFGSAnalyticRiseTrend // of the trials failing sufficient decrease
+	var trend woodLBFGSAnalyticRiseTrend                         // of the trials failing sufficient decrease
+	limit := woodLBFGSAnalyticStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < woodLBFGSAnalyticStepTrials; trial++ {
 		if bracketed && woodLBFGSAnalyticAbs(high.step-low.step) <= tiny {
@@ -713,12 +784,12 @@ func woodLBFGSAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64, slope
 			if low.step == 0 {
 				return woodLBFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: woodLBFGSAnalyticTinyOrExhausted(woodLBFGSAnalyticFinite(high.value))}
 			}
-			return woodLBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return woodLBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return woodLBFGSAnalyticLineResult{calls: calls, end: woodLBFGSAnalyticSearchOutOfBudget}
 		}
-		woodLBFGSAnalyticMoveTo(xt, x, t, d)
+		woodLBFGSAnalyticTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := woodLBFGSAnalyticLinePoint{step: t, value: Wood(xt)}
 		calls++
 		previous := low
@@ -729,8 +800,7 @@ func woodLBFGSAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64, slope
 			if calls+woodLBFGSAnalyticDerivativeCost > budget {
 				return woodLBFGSAnalyticLineResult{calls: calls, end: woodLBFGSAnalyticSearchOutOfBudget}
 			}
-			woodLBFGSAnalyticDerivative(xt, current.value, gt, diffs)
-			calls += woodLBFGSAnalyticDerivativeCost
+			calls += woodLBFGSAnalyticDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = woodLBFGSAnalyticDot(gt, d), true
 			switch {
 			case !woodLBFGSAnalyticFinite(current.slope):
@@ -741,18 +811,22 @@ func woodLBFGSAnalyticLineSearch(x *[4]float64, fx float64, d *[4]float64, slope
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return woodLBFGSAnalyticLineResult{step: t, value: current.value, calls: calls, gradient: true, end: woodLBFGSAnalyticSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = woodLBFGSAnalyticZoomTrial(&low, &high)
-		} else {
-			t = woodLBFGSAnalyticExpandTrial(&previous, &current)
+		} else if t = woodLBFGSAnalyticExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return woodLBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return woodLBFGSAnalyticAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return woodLBFGSAnalyticLineResult{calls: calls, rising: trend.contradicts(), end: woodLBFGSAnalyticSearchExhausted}
 }
@@ -839,6 +913,11 @@ func woodLBFGSAnalyticFaithfulStep(x, xt, d *[4]float64, t float64) bool {
 	return true
 }
 
+// woodLBFGSAnalyticStepCap: without bounds a step may be as long as the search wants.
+func woodLBFGSAnalyticStepCap(x, d *[4]float64, tiny float64, b *woodLBFGSAnalyticBox) float64 {
+	return math.Inf(1)
+}
+
 // woodLBFGSAnalyticTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -863,10 +942,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func woodLBFGSAnalyticAcceptLow(x, d *[4]float64, low *woodLBFGSAnalyticLinePoint, lowGradient *[4]float64, calls int, xt, gt *[4]float64) woodLBFGSAnalyticLineResult {
-	woodLBFGSAnalyticMoveTo(xt, x, low.step, d)
+func woodLBFGSAnalyticAcceptLow(x, d *[4]float64, low *woodLBFGSAnalyticLinePoint, lowGradient *[4]float64, calls int, xt, gt *[4]float64, diffs *woodLBFGSAnalyticDifferences) woodLBFGSAnalyticLineResult {
+	woodLBFGSAnalyticTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return woodLBFGSAnalyticLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: woodLBFGSAnalyticSearchAccepted}
+}
+
+// woodLBFGSAnalyticTrialPoint is x + t·d.
+func woodLBFGSAnalyticTrialPoint(out, x *[4]float64, t float64, d *[4]float64, b *woodLBFGSAnalyticBox) {
+	woodLBFGSAnalyticMoveTo(out, x, t, d)
 }
 
 // woodLBFGSAnalyticMoveTo sets out = x + t·d.
@@ -921,21 +1005,6 @@ func woodLBFGSAnalyticModelMinimizer(a, b *woodLBFGSAnalyticLinePoint) (t float6
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, woodLBFGSAnalyticFinite(t)
-}
-
-// woodLBFGSAnalyticClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func woodLBFGSAnalyticClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // woodLBFGSAnalyticExpandTrial picks a larger trial after current met sufficient decrease

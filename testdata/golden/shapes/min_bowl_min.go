@@ -88,6 +88,9 @@ func MinBowlDefaultLimits() MinBowlLimits {
 	}
 }
 
+// minBowlBox is empty: shapes.toml sets no bounds on MinBowl.
+type minBowlBox struct{}
+
 // MinBowl minimizes Bowl from x0, as shapes.toml specifies.
 //
 // Direction cg: nonlinear conjugate gradients, Polak–Ribière clipped at zero (PR+), restarted every dim steps.
@@ -105,7 +108,7 @@ func MinBowl(x0 [3]float32) MinBowlResult {
 
 // MinBowlWithLimits is MinBowl with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func MinBowlWithLimits(x0 [3]float32, limits MinBowlLimits) MinBowlResult {
-	out := minBowlMinimize(x0, limits)
+	out := minBowlMinimize(x0, limits, minBowlBox{})
 	return MinBowlResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -159,27 +162,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func minBowlMinimize(x0 [3]float32, lim MinBowlLimits) minBowlOutcome {
-	out := minBowlOutcome{x: x0, status: MinBowlOutOfEvaluations, gradient: float32(math.NaN())}
+func minBowlMinimize(x0 [3]float32, lim MinBowlLimits, bounds minBowlBox) minBowlOutcome {
+	x := x0
+	minBowlEnterBox(&x, &bounds)
+	out := minBowlOutcome{x: x, status: MinBowlOutOfEvaluations, gradient: float32(math.NaN())}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := Bowl(x[:])
 	out.f, out.evaluations = fx, 1
 	if !minBowlFinite(fx) || !minBowlFiniteVec(&x) {
 		out.status = MinBowlNonFiniteStart
 		return out
 	}
-	var diffs minBowlDifferences
+	diffs := minBowlDifferences{bounds: bounds}
 	calls, ok := minBowlCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+minBowlDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [3]float32
-	minBowlDerivative(&x, fx, &g, &diffs)
-	out.evaluations += minBowlDerivativeCost
+	out.evaluations += minBowlDerivative(&x, fx, &g, &diffs)
 
 	if !minBowlFiniteVec(&g) {
 		out.status = MinBowlNonFiniteGradient
@@ -212,7 +215,7 @@ func minBowlMinimize(x0 [3]float32, lim MinBowlLimits) minBowlOutcome {
 		case !confirmed:
 			minBowlGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := minBowlGradientMeasure(&g, &e, &x, fx)
+		measure, floor := minBowlStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, minBowlLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -251,16 +254,17 @@ func minBowlMinimize(x0 [3]float32, lim MinBowlLimits) minBowlOutcome {
 			if rises >= 8 {
 				return best.ending(MinBowlDiverged, out.iterations, out.evaluations)
 			}
+			minBowlCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(MinBowlOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		minBowlSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := minBowlDot(&g, &d)
 		if !(now < 0) || !minBowlFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			minBowlSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = minBowlDot(&g, &d)
 		}
 		first := float32(minBowlStepInitial)
@@ -268,7 +272,7 @@ func minBowlMinimize(x0 [3]float32, lim MinBowlLimits) minBowlOutcome {
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := minBowlTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := minBowlLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := minBowlLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case minBowlSearchOutOfBudget:
@@ -304,8 +308,7 @@ func minBowlMinimize(x0 [3]float32, lim MinBowlLimits) minBowlOutcome {
 				}
 				return best.ending(MinBowlOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			minBowlDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += minBowlDerivativeCost
+			out.evaluations += minBowlDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		minBowlDifference(&s, &xt, &x)
@@ -346,6 +349,9 @@ func (o minBowlOutcome) ending(end MinBowlStatus, iterations, evaluations int) m
 	return o
 }
 
+// minBowlEnterBox: without bounds every start is inside.
+func minBowlEnterBox(x *[3]float32, b *minBowlBox) {}
+
 // minBowlFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -368,15 +374,17 @@ func minBowlFiniteVec(x *[3]float32) bool {
 	return true
 }
 
-// minBowlDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// minBowlDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type minBowlDifferences struct {
 	ratio     [3]float32
 	curvature [3]float32
 	second    [3]float32 // |f″| along e_i, for the rounding floor of a stall (see minBowlRoundingFloor)
+	bounds    minBowlBox
 }
 
 // minBowlCalibrate chooses each forward-difference interval from the
@@ -404,19 +412,36 @@ func minBowlCalibrate(x *[3]float32, fx float32, diffs *minBowlDifferences, budg
 	probe := *x
 	var slope [3]float32
 	scale := minBowlAbs(fx)
+	calls := 0
 	for i := range probe {
-		if 2*(i+1) > budget {
-			return 2 * i, false
+		if calls+2 > budget {
+			return calls, false
 		}
 		xi := probe[i]
 		bar := minBowlCentralScale * minBowlLarger(1, minBowlAbs(xi))
-		up, hUp := minBowlProbeStep(xi, bar)
+		lower, upper := minBowlCoordinateRange(i, diffs)
+		if xi+bar > upper || xi-bar < lower {
+			// At a bound: two probes on the side with room, at h and 2h.
+			h := minBowlOneSide(xi, bar, 2, lower, upper)
+			if h == 0 {
+				continue // fixed by equal bounds
+			}
+			sided, second, size := minBowlSidedProbes(&probe, i, fx, h, lower, upper)
+			calls += 2
+			scale = minBowlLarger(scale, size)
+			if minBowlFinite(sided) && minBowlFinite(second) {
+				diffs.curvature[i], slope[i] = minBowlAbs(second), sided
+			}
+			continue
+		}
+		up, hUp := minBowlProbeStep(xi, bar, lower, upper)
+		down, hDown := minBowlProbeStep(xi, -bar, lower, upper)
 		probe[i] = up
 		fUp := Bowl(probe[:])
-		down, hDown := minBowlProbeStep(xi, -bar)
 		probe[i] = down
 		fDown := Bowl(probe[:])
 		probe[i] = xi
+		calls += 2
 		scale = minBowlLarger(scale, minBowlLarger(minBowlMagnitude(fUp), minBowlMagnitude(fDown)))
 		if minBowlFinite(fUp) && minBowlFinite(fDown) {
 			// f″ from the two one-sided slopes over the representable
@@ -438,7 +463,7 @@ func minBowlCalibrate(x *[3]float32, fx float32, diffs *minBowlDifferences, budg
 		diffs.curvature[i] = second
 		diffs.second[i] = second
 	}
-	return 2 * len(probe), true
+	return calls, true
 }
 
 // minBowlAbs returns |v|.
@@ -459,10 +484,78 @@ func minBowlLarger(a, b float32) float32 {
 	return b
 }
 
-// minBowlProbeStep returns x_i moved by h, and the step actually representable.
-func minBowlProbeStep(xi, h float32) (float32, float32) {
-	moved := xi + h
+// minBowlCoordinateRange: without bounds any probe is allowed.
+func minBowlCoordinateRange(i int, diffs *minBowlDifferences) (lower, upper float32) {
+	return float32(math.Inf(-1)), float32(math.Inf(1))
+}
+
+// minBowlOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func minBowlOneSide(xi, h, reach, lower, upper float32) float32 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
+}
+
+// minBowlSidedProbes evaluates f at x moved along coordinate i by h and by 2h,
+// kept within [lower, upper], and returns the slope and second derivative
+// of the parabola through them and (x, fx) (see parabola), and the larger
+// magnitude of the two values.
+func minBowlSidedProbes(probe *[3]float32, i int, fx, h, lower, upper float32) (slope, second, size float32) {
+	xi := probe[i]
+	near, a := minBowlProbeStep(xi, h, lower, upper)
+	far, b := minBowlProbeStep(xi, 2*h, lower, upper)
+	probe[i] = near
+	fNear := Bowl(probe[:])
+	probe[i] = far
+	fFar := Bowl(probe[:])
+	probe[i] = xi
+	slope, second = minBowlParabola(fx, a, fNear, b, fFar)
+	return slope, second, minBowlLarger(minBowlMagnitude(fNear), minBowlMagnitude(fFar))
+}
+
+// minBowlProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func minBowlProbeStep(xi, h, lower, upper float32) (float32, float32) {
+	moved := minBowlClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// minBowlClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func minBowlClampBetween(v, a, b float32) float32 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// minBowlParabola returns the first and second derivatives at 0 of the parabola
+// through (0, f0), (a, fa) and (b, fb), for probes on one side of a bound.
+// With b = 2a they are the three-point endpoint formulas
+// f′ ≈ (−3f0 + 4fa − fb)/(2a), error a²|f‴|/3, and
+// f″ ≈ (f0 − 2fa + fb)/a² (Burden & Faires, Numerical Analysis, §4.1
+// and §4.1's second-derivative formulas, from memory); written for unequal
+// a and b, so that the representable steps can be used.
+func minBowlParabola(f0, a, fa, b, fb float32) (slope, second float32) {
+	slope = -(a+b)/(a*b)*f0 + b/(a*(b-a))*fa - a/(b*(b-a))*fb
+	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
+	return slope, second
 }
 
 // minBowlMagnitude is |v| for a finite v and 0 otherwise: a probe that fell
@@ -498,36 +591,40 @@ func minBowlSquareRoot(v float32) float32 {
 	return float32(math.Sqrt(float64(v)))
 }
 
-// minBowlClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func minBowlClampBetween(v, a, b float32) float32 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
-}
-
 // minBowlDerivative approximates the gradient by forward differences,
 //
 //	g_i ≈ (f(x + h_i e_i) − f(x)) / h_i,
 //
 // with the intervals minBowlCalibrate chose, h_i = ratio_i·max(1, |x_i|)
-// (Nocedal & Wright 2006, eq. 8.1). It costs dim objective calls.
-func minBowlDerivative(x *[3]float32, fx float32, g *[3]float32, diffs *minBowlDifferences) {
+// (Nocedal & Wright 2006, eq. 8.1). It costs dim objective calls. Where
+// a bound leaves no room ahead the difference is taken backwards, over
+// the room there is when the box is narrower than h_i; a variable fixed
+// by equal bounds costs nothing and gets 0.
+func minBowlDerivative(x *[3]float32, fx float32, g *[3]float32, diffs *minBowlDifferences) int {
 	probe := *x
+	calls := 0
 	for i := range probe {
 		xi := probe[i]
-		up, h := minBowlProbeStep(xi, diffs.ratio[i]*minBowlLarger(1, minBowlAbs(xi)))
+		lower, upper := minBowlCoordinateRange(i, diffs)
+		up, h := minBowlProbeStep(xi, minBowlForwardInterval(x, i, diffs), lower, upper)
+		if h == 0 {
+			g[i] = 0 // fixed by equal bounds
+			continue
+		}
 		probe[i] = up
 		g[i] = (Bowl(probe[:]) - fx) / h // N&W eq. 8.1, with the representable h
 		probe[i] = xi
+		calls++
 	}
+	return calls
+}
+
+// minBowlForwardInterval is the signed interval of coordinate i at x: ratio_i·
+// max(1, |x_i|) forwards, or backwards at an upper bound, shortened where
+// the box is narrower than that (see minBowlOneSide).
+func minBowlForwardInterval(x *[3]float32, i int, diffs *minBowlDifferences) float32 {
+	lower, upper := minBowlCoordinateRange(i, diffs)
+	return minBowlOneSide(x[i], diffs.ratio[i]*minBowlLarger(1, minBowlAbs(x[i])), 1, lower, upper)
 }
 
 // minBowlDirection is nonlinear conjugate gradients with the Polak–Ribière
@@ -649,13 +746,13 @@ func minBowlConfirmGradient(x *[3]float32, fx float32, g, e *[3]float32, diffs *
 		wide.ratio[i] *= 2
 	}
 	var doubled [3]float32
-	minBowlDerivative(x, fx, g, diffs)
-	minBowlDerivative(x, fx, &doubled, &wide)
+	calls += minBowlDerivative(x, fx, g, diffs)
+	calls += minBowlDerivative(x, fx, &doubled, &wide)
 	minBowlGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * minBowlAbs(g[i]-doubled[i])
 	}
-	return calls + 2*minBowlDerivativeCost, true
+	return calls, true
 }
 
 // minBowlGradientError bounds each forward difference's error by twice its
@@ -666,8 +763,11 @@ func minBowlConfirmGradient(x *[3]float32, fx float32, g, e *[3]float32, diffs *
 func minBowlGradientError(x *[3]float32, fx float32, g, e *[3]float32, diffs *minBowlDifferences) {
 	noise := minBowlNoiseLevel(x, fx, g)
 	for i := range e {
-		h := diffs.ratio[i] * minBowlLarger(1, minBowlAbs(x[i]))
-		e[i] = 2 * (h*diffs.curvature[i]/2 + 2*noise/h)
+		h := minBowlAbs(minBowlForwardInterval(x, i, diffs))
+		e[i] = 0 // fixed by equal bounds
+		if h > 0 {
+			e[i] = 2 * (h*diffs.curvature[i]/2 + 2*noise/h)
+		}
 	}
 }
 
@@ -689,6 +789,11 @@ func minBowlRoundingFloor(x, g, e *[3]float32, diffs *minBowlDifferences) {
 // calibration, which minBowlConfirmGradient has just made at x.
 func minBowlDiagonalCurvature(x, g *[3]float32, diffs *minBowlDifferences, h *[3]float32) {
 	*h = diffs.second
+}
+
+// minBowlStationarity measures the gradient itself.
+func minBowlStationarity(g, e, x *[3]float32, fx float32, b *minBowlBox) (measure, floor float32) {
+	return minBowlGradientMeasure(g, e, x, fx)
 }
 
 // minBowlGradientMeasure is the scale-free measure
@@ -724,6 +829,14 @@ func minBowlStepWithin(s, x *[3]float32, tol float32) bool {
 	return true
 }
 
+// minBowlCurvaturePair: without bounds the pair is used as it is.
+func minBowlCurvaturePair(s, y, x *[3]float32, b *minBowlBox) {}
+
+// minBowlSearchDirection is the direction's own.
+func minBowlSearchDirection(dir *minBowlDirection, x, g, d *[3]float32, b *minBowlBox) {
+	dir.compute(g, d)
+}
+
 // minBowlTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func minBowlTinyStep(x, d *[3]float32, tol float32) float32 {
@@ -751,7 +864,10 @@ func minBowlTinyStep(x, d *[3]float32, tol float32) float32 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (minBowlStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -760,13 +876,17 @@ func minBowlTinyStep(x, d *[3]float32, tol float32) float32 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func minBowlLineSearch(x *[3]float32, fx float32, d *[3]float32, slope, first, tiny float32, budget int, xt, gt *[3]float32, diffs *minBowlDifferences) minBowlLineResult {
+func minBowlLineSearch(x *[3]float32, fx float32, g, d *[3]float32, slope, first, tiny float32, budget int, xt, gt *[3]float32, diffs *minBowlDifferences) minBowlLineResult {
 	low := minBowlLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high minBowlLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [3]float32                                       // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend minBowlRiseTrend // of the trials failing sufficient decrease
+	var trend minBowlRiseTrend                         // of the trials failing sufficient decrease
+	limit := minBowlStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < minBowlStepTrials; trial++ {
 		if bracketed && minBowlAbs(high.step-low.step) <= tiny {
@@ -776,12 +896,12 @@ func minBowlLineSearch(x *[3]float32, fx float32, d *[3]float32, slope, first, t
 			if low.step == 0 {
 				return minBowlLineResult{calls: calls, rising: trend.contradicts(), end: minBowlTinyOrExhausted(minBowlFinite(high.value))}
 			}
-			return minBowlAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return minBowlAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return minBowlLineResult{calls: calls, end: minBowlSearchOutOfBudget}
 		}
-		minBowlMoveTo(xt, x, t, d)
+		minBowlTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := minBowlLinePoint{step: t, value: Bowl(xt[:])}
 		calls++
 		previous := low
@@ -792,8 +912,7 @@ func minBowlLineSearch(x *[3]float32, fx float32, d *[3]float32, slope, first, t
 			if calls+minBowlDerivativeCost > budget {
 				return minBowlLineResult{calls: calls, end: minBowlSearchOutOfBudget}
 			}
-			minBowlDerivative(xt, current.value, gt, diffs)
-			calls += minBowlDerivativeCost
+			calls += minBowlDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = minBowlDot(gt, d), true
 			switch {
 			case !minBowlFinite(current.slope):
@@ -804,18 +923,22 @@ func minBowlLineSearch(x *[3]float32, fx float32, d *[3]float32, slope, first, t
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return minBowlLineResult{step: t, value: current.value, calls: calls, gradient: true, end: minBowlSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = minBowlZoomTrial(&low, &high)
-		} else {
-			t = minBowlExpandTrial(&previous, &current)
+		} else if t = minBowlExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return minBowlAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return minBowlAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return minBowlLineResult{calls: calls, rising: trend.contradicts(), end: minBowlSearchExhausted}
 }
@@ -902,6 +1025,11 @@ func minBowlFaithfulStep(x, xt, d *[3]float32, t float32) bool {
 	return true
 }
 
+// minBowlStepCap: without bounds a step may be as long as the search wants.
+func minBowlStepCap(x, d *[3]float32, tiny float32, b *minBowlBox) float32 {
+	return float32(math.Inf(1))
+}
+
 // minBowlTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -926,10 +1054,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func minBowlAcceptLow(x, d *[3]float32, low *minBowlLinePoint, lowGradient *[3]float32, calls int, xt, gt *[3]float32) minBowlLineResult {
-	minBowlMoveTo(xt, x, low.step, d)
+func minBowlAcceptLow(x, d *[3]float32, low *minBowlLinePoint, lowGradient *[3]float32, calls int, xt, gt *[3]float32, diffs *minBowlDifferences) minBowlLineResult {
+	minBowlTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return minBowlLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: minBowlSearchAccepted}
+}
+
+// minBowlTrialPoint is x + t·d.
+func minBowlTrialPoint(out, x *[3]float32, t float32, d *[3]float32, b *minBowlBox) {
+	minBowlMoveTo(out, x, t, d)
 }
 
 // minBowlMoveTo sets out = x + t·d.

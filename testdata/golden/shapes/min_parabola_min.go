@@ -88,6 +88,9 @@ func MinParabolaDefaultLimits() MinParabolaLimits {
 	}
 }
 
+// minParabolaBox is empty: shapes.toml sets no bounds on MinParabola.
+type minParabolaBox struct{}
+
 // MinParabola minimizes Parabola from x0, as shapes.toml specifies.
 //
 // Direction bfgs: BFGS quasi-Newton with a dense inverse-Hessian approximation (dim² numbers).
@@ -105,7 +108,7 @@ func MinParabola(x0 float64) MinParabolaResult {
 
 // MinParabolaWithLimits is MinParabola with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func MinParabolaWithLimits(x0 float64, limits MinParabolaLimits) MinParabolaResult {
-	out := minParabolaMinimize([1]float64{x0}, limits)
+	out := minParabolaMinimize([1]float64{x0}, limits, minParabolaBox{})
 	return MinParabolaResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func minParabolaMinimize(x0 [1]float64, lim MinParabolaLimits) minParabolaOutcome {
-	out := minParabolaOutcome{x: x0, status: MinParabolaOutOfEvaluations, gradient: math.NaN()}
+func minParabolaMinimize(x0 [1]float64, lim MinParabolaLimits, bounds minParabolaBox) minParabolaOutcome {
+	x := x0
+	minParabolaEnterBox(&x, &bounds)
+	out := minParabolaOutcome{x: x, status: MinParabolaOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := Parabola(x[0])
 	out.f, out.evaluations = fx, 1
 	if !minParabolaFinite(fx) || !minParabolaFiniteVec(&x) {
 		out.status = MinParabolaNonFiniteStart
 		return out
 	}
-	var diffs minParabolaDifferences
+	diffs := minParabolaDifferences{bounds: bounds}
 	calls, ok := minParabolaCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+minParabolaDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [1]float64
-	minParabolaDerivative(&x, fx, &g, &diffs)
-	out.evaluations += minParabolaDerivativeCost
+	out.evaluations += minParabolaDerivative(&x, fx, &g, &diffs)
 
 	if !minParabolaFiniteVec(&g) {
 		out.status = MinParabolaNonFiniteGradient
@@ -211,7 +214,7 @@ func minParabolaMinimize(x0 [1]float64, lim MinParabolaLimits) minParabolaOutcom
 		case !confirmed:
 			minParabolaGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := minParabolaGradientMeasure(&g, &e, &x, fx)
+		measure, floor := minParabolaStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, minParabolaLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func minParabolaMinimize(x0 [1]float64, lim MinParabolaLimits) minParabolaOutcom
 			if rises >= 8 {
 				return best.ending(MinParabolaDiverged, out.iterations, out.evaluations)
 			}
+			minParabolaCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(MinParabolaOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		minParabolaSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := minParabolaDot(&g, &d)
 		if !(now < 0) || !minParabolaFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			minParabolaSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = minParabolaDot(&g, &d)
 		}
 		first := float64(minParabolaStepInitial)
@@ -267,7 +271,7 @@ func minParabolaMinimize(x0 [1]float64, lim MinParabolaLimits) minParabolaOutcom
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := minParabolaTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := minParabolaLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := minParabolaLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case minParabolaSearchOutOfBudget:
@@ -303,8 +307,7 @@ func minParabolaMinimize(x0 [1]float64, lim MinParabolaLimits) minParabolaOutcom
 				}
 				return best.ending(MinParabolaOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			minParabolaDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += minParabolaDerivativeCost
+			out.evaluations += minParabolaDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		minParabolaDifference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o minParabolaOutcome) ending(end MinParabolaStatus, iterations, evaluation
 	return o
 }
 
+// minParabolaEnterBox: without bounds every start is inside.
+func minParabolaEnterBox(x *[1]float64, b *minParabolaBox) {}
+
 // minParabolaFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func minParabolaFiniteVec(x *[1]float64) bool {
 	return true
 }
 
-// minParabolaDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// minParabolaDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type minParabolaDifferences struct {
 	ratio     [1]float64
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see minParabolaRoundingFloor)
+	bounds    minParabolaBox
 }
 
 // minParabolaCalibrate chooses each central-difference interval from the
@@ -397,19 +405,45 @@ func minParabolaCalibrate(x *[1]float64, fx float64, diffs *minParabolaDifferenc
 	var slope [1]float64
 	scale := minParabolaAbs(fx)
 	quarter := minParabolaSquareRoot(minParabolaSquareRoot(minParabolaUnitRoundoff)) // u^(1/4)
+	calls := 0
 	for i := range probe {
-		if 4*(i+1) > budget {
-			return 4 * i, false
+		if calls+4 > budget {
+			return calls, false
 		}
 		xi := probe[i]
 		bar := quarter * minParabolaLarger(1, minParabolaAbs(xi))
+		lower, upper := minParabolaCoordinateRange(i, diffs)
+		if xi+2*bar > upper || xi-2*bar < lower {
+			// At a bound: three probes on the side with room, at h, 2h
+			// and 3h, for f‴ ≈ (f(3h) − 3f(2h) + 3f(h) − f(0))/h³ (the
+			// third forward difference).
+			h := minParabolaOneSide(xi, bar, 3, lower, upper)
+			if h == 0 {
+				continue // fixed by equal bounds
+			}
+			var f [3]float64
+			for k := range f {
+				probe[i], _ = minParabolaProbeStep(xi, float64(k+1)*h, lower, upper)
+				f[k] = Parabola(probe[0])
+				scale = minParabolaLarger(scale, minParabolaMagnitude(f[k]))
+			}
+			probe[i] = xi
+			calls += 3
+			if minParabolaFinite(f[0]) && minParabolaFinite(f[1]) && minParabolaFinite(f[2]) {
+				diffs.curvature[i] = minParabolaAbs(f[2]-3*f[1]+3*f[0]-fx) / minParabolaAbs(h*h*h)
+				diffs.second[i] = minParabolaAbs(fx-2*f[0]+f[1]) / (h * h)
+				slope[i] = (-3*fx + 4*f[0] - f[1]) / (2 * h)
+			}
+			continue
+		}
 		var f [4]float64
 		for k, m := range [4]float64{2, 1, -1, -2} {
-			probe[i], _ = minParabolaProbeStep(xi, m*bar)
+			probe[i], _ = minParabolaProbeStep(xi, m*bar, lower, upper)
 			f[k] = Parabola(probe[0])
 			scale = minParabolaLarger(scale, minParabolaMagnitude(f[k]))
 		}
 		probe[i] = xi
+		calls += 4
 		if minParabolaFinite(f[0]) && minParabolaFinite(f[1]) && minParabolaFinite(f[2]) && minParabolaFinite(f[3]) {
 			diffs.curvature[i] = minParabolaAbs(f[0]-2*f[1]+2*f[2]-f[3]) / (2 * bar * bar * bar)
 			diffs.second[i] = minParabolaAbs(f[1]-2*fx+f[2]) / (bar * bar)
@@ -428,7 +462,7 @@ func minParabolaCalibrate(x *[1]float64, fx float64, diffs *minParabolaDifferenc
 		diffs.ratio[i] = minParabolaClampBetween(h, 64*minParabolaUnitRoundoff*s, bar) / s
 		diffs.curvature[i] = third
 	}
-	return 4 * len(probe), true
+	return calls, true
 }
 
 // minParabolaAbs returns |v|.
@@ -454,10 +488,48 @@ func minParabolaLarger(a, b float64) float64 {
 	return b
 }
 
-// minParabolaProbeStep returns x_i moved by h, and the step actually representable.
-func minParabolaProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// minParabolaCoordinateRange: without bounds any probe is allowed.
+func minParabolaCoordinateRange(i int, diffs *minParabolaDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// minParabolaOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func minParabolaOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
+}
+
+// minParabolaProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func minParabolaProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := minParabolaClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// minParabolaClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func minParabolaClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
 }
 
 // minParabolaMagnitude is |v| for a finite v and 0 otherwise: a probe that fell
@@ -493,42 +565,85 @@ func minParabolaCubeRoot(v float64) float64 {
 	return math.Cbrt(v)
 }
 
-// minParabolaClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func minParabolaClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
-}
-
 // minParabolaDerivative approximates the gradient by central differences,
 //
 //	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),
 //
 // with the intervals minParabolaCalibrate chose, h_i = ratio_i·max(1, |x_i|)
-// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls; fx is
-// not needed.
-func minParabolaDerivative(x *[1]float64, fx float64, g *[1]float64, diffs *minParabolaDifferences) {
+// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls. Where
+// a bound leaves no room on one side, the three-point endpoint formula on
+// the other side takes its place at the same cost (see parabola); a
+// variable fixed by equal bounds costs nothing and gets 0.
+func minParabolaDerivative(x *[1]float64, fx float64, g *[1]float64, diffs *minParabolaDifferences) int {
 	probe := *x
+	calls := 0
 	for i := range probe {
 		xi := probe[i]
-		h := diffs.ratio[i] * minParabolaLarger(1, minParabolaAbs(xi))
-		up, _ := minParabolaProbeStep(xi, h)
-		down, _ := minParabolaProbeStep(xi, -h)
-		probe[i] = up
-		fUp := Parabola(probe[0])
-		probe[i] = down
-		fDown := Parabola(probe[0])
-		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
-		probe[i] = xi
+		h, oneSided := minParabolaCentralInterval(x, i, diffs)
+		lower, upper := minParabolaCoordinateRange(i, diffs)
+		switch {
+		case h == 0:
+			g[i] = 0 // fixed by equal bounds
+			continue
+		case oneSided:
+			g[i], _, _ = minParabolaSidedProbes(&probe, i, fx, h, lower, upper) // the three-point endpoint formula
+		default:
+			up, _ := minParabolaProbeStep(xi, h, lower, upper)
+			down, _ := minParabolaProbeStep(xi, -h, lower, upper)
+			probe[i] = up
+			fUp := Parabola(probe[0])
+			probe[i] = down
+			fDown := Parabola(probe[0])
+			g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+			probe[i] = xi
+		}
+		calls += 2
 	}
+	return calls
+}
+
+// minParabolaCentralInterval is the interval of coordinate i at x, ratio_i·max(1,
+// |x_i|), and whether the box leaves room for probes on both sides; when
+// it does not, the interval is signed towards the side with room for
+// probes at h and 2h, and shortened where the box is narrower than that
+// (see minParabolaOneSide).
+func minParabolaCentralInterval(x *[1]float64, i int, diffs *minParabolaDifferences) (h float64, oneSided bool) {
+	lower, upper := minParabolaCoordinateRange(i, diffs)
+	h = diffs.ratio[i] * minParabolaLarger(1, minParabolaAbs(x[i]))
+	if x[i]+h <= upper && x[i]-h >= lower {
+		return h, false
+	}
+	return minParabolaOneSide(x[i], h, 2, lower, upper), true
+}
+
+// minParabolaSidedProbes evaluates f at x moved along coordinate i by h and by 2h,
+// kept within [lower, upper], and returns the slope and second derivative
+// of the parabola through them and (x, fx) (see parabola), and the larger
+// magnitude of the two values.
+func minParabolaSidedProbes(probe *[1]float64, i int, fx, h, lower, upper float64) (slope, second, size float64) {
+	xi := probe[i]
+	near, a := minParabolaProbeStep(xi, h, lower, upper)
+	far, b := minParabolaProbeStep(xi, 2*h, lower, upper)
+	probe[i] = near
+	fNear := Parabola(probe[0])
+	probe[i] = far
+	fFar := Parabola(probe[0])
+	probe[i] = xi
+	slope, second = minParabolaParabola(fx, a, fNear, b, fFar)
+	return slope, second, minParabolaLarger(minParabolaMagnitude(fNear), minParabolaMagnitude(fFar))
+}
+
+// minParabolaParabola returns the first and second derivatives at 0 of the parabola
+// through (0, f0), (a, fa) and (b, fb), for probes on one side of a bound.
+// With b = 2a they are the three-point endpoint formulas
+// f′ ≈ (−3f0 + 4fa − fb)/(2a), error a²|f‴|/3, and
+// f″ ≈ (f0 − 2fa + fb)/a² (Burden & Faires, Numerical Analysis, §4.1
+// and §4.1's second-derivative formulas, from memory); written for unequal
+// a and b, so that the representable steps can be used.
+func minParabolaParabola(f0, a, fa, b, fb float64) (slope, second float64) {
+	slope = -(a+b)/(a*b)*f0 + b/(a*(b-a))*fa - a/(b*(b-a))*fb
+	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
+	return slope, second
 }
 
 // minParabolaDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
@@ -668,13 +783,13 @@ func minParabolaConfirmGradient(x *[1]float64, fx float64, g, e *[1]float64, dif
 		wide.ratio[i] *= 2
 	}
 	var doubled [1]float64
-	minParabolaDerivative(x, fx, g, diffs)
-	minParabolaDerivative(x, fx, &doubled, &wide)
+	calls += minParabolaDerivative(x, fx, g, diffs)
+	calls += minParabolaDerivative(x, fx, &doubled, &wide)
 	minParabolaGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * minParabolaAbs(g[i]-doubled[i])
 	}
-	return calls + 2*minParabolaDerivativeCost, true
+	return calls, true
 }
 
 // minParabolaGradientError bounds each central difference's error by twice its
@@ -684,8 +799,16 @@ func minParabolaConfirmGradient(x *[1]float64, fx float64, g, e *[1]float64, dif
 func minParabolaGradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *minParabolaDifferences) {
 	noise := minParabolaNoiseLevel(x, fx, g)
 	for i := range e {
-		h := diffs.ratio[i] * minParabolaLarger(1, minParabolaAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		h, oneSided := minParabolaCentralInterval(x, i, diffs)
+		h = minParabolaAbs(h)
+		switch {
+		case h == 0:
+			e[i] = 0 // fixed by equal bounds
+		case oneSided:
+			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+		default:
+			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		}
 	}
 }
 
@@ -707,6 +830,11 @@ func minParabolaRoundingFloor(x, g, e *[1]float64, diffs *minParabolaDifferences
 // calibration, which minParabolaConfirmGradient has just made at x.
 func minParabolaDiagonalCurvature(x, g *[1]float64, diffs *minParabolaDifferences, h *[1]float64) {
 	*h = diffs.second
+}
+
+// minParabolaStationarity measures the gradient itself.
+func minParabolaStationarity(g, e, x *[1]float64, fx float64, b *minParabolaBox) (measure, floor float64) {
+	return minParabolaGradientMeasure(g, e, x, fx)
 }
 
 // minParabolaGradientMeasure is the scale-free measure
@@ -742,6 +870,14 @@ func minParabolaStepWithin(s, x *[1]float64, tol float64) bool {
 	return true
 }
 
+// minParabolaCurvaturePair: without bounds the pair is used as it is.
+func minParabolaCurvaturePair(s, y, x *[1]float64, b *minParabolaBox) {}
+
+// minParabolaSearchDirection is the direction's own.
+func minParabolaSearchDirection(dir *minParabolaDirection, x, g, d *[1]float64, b *minParabolaBox) {
+	dir.compute(g, d)
+}
+
 // minParabolaTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func minParabolaTinyStep(x, d *[1]float64, tol float64) float64 {
@@ -769,7 +905,10 @@ func minParabolaTinyStep(x, d *[1]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (minParabolaStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -778,13 +917,17 @@ func minParabolaTinyStep(x, d *[1]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func minParabolaLineSearch(x *[1]float64, fx float64, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *minParabolaDifferences) minParabolaLineResult {
+func minParabolaLineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *minParabolaDifferences) minParabolaLineResult {
 	low := minParabolaLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high minParabolaLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [1]float64                                           // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend minParabolaRiseTrend // of the trials failing sufficient decrease
+	var trend minParabolaRiseTrend                         // of the trials failing sufficient decrease
+	limit := minParabolaStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < minParabolaStepTrials; trial++ {
 		if bracketed && minParabolaAbs(high.step-low.step) <= tiny {
@@ -794,12 +937,12 @@ func minParabolaLineSearch(x *[1]float64, fx float64, d *[1]float64, slope, firs
 			if low.step == 0 {
 				return minParabolaLineResult{calls: calls, rising: trend.contradicts(), end: minParabolaTinyOrExhausted(minParabolaFinite(high.value))}
 			}
-			return minParabolaAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return minParabolaAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return minParabolaLineResult{calls: calls, end: minParabolaSearchOutOfBudget}
 		}
-		minParabolaMoveTo(xt, x, t, d)
+		minParabolaTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := minParabolaLinePoint{step: t, value: Parabola(xt[0])}
 		calls++
 		previous := low
@@ -810,8 +953,7 @@ func minParabolaLineSearch(x *[1]float64, fx float64, d *[1]float64, slope, firs
 			if calls+minParabolaDerivativeCost > budget {
 				return minParabolaLineResult{calls: calls, end: minParabolaSearchOutOfBudget}
 			}
-			minParabolaDerivative(xt, current.value, gt, diffs)
-			calls += minParabolaDerivativeCost
+			calls += minParabolaDerivative(xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = minParabolaDot(gt, d), true
 			switch {
 			case !minParabolaFinite(current.slope):
@@ -822,18 +964,22 @@ func minParabolaLineSearch(x *[1]float64, fx float64, d *[1]float64, slope, firs
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return minParabolaLineResult{step: t, value: current.value, calls: calls, gradient: true, end: minParabolaSearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = minParabolaZoomTrial(&low, &high)
-		} else {
-			t = minParabolaExpandTrial(&previous, &current)
+		} else if t = minParabolaExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return minParabolaAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return minParabolaAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return minParabolaLineResult{calls: calls, rising: trend.contradicts(), end: minParabolaSearchExhausted}
 }
@@ -920,6 +1066,11 @@ func minParabolaFaithfulStep(x, xt, d *[1]float64, t float64) bool {
 	return true
 }
 
+// minParabolaStepCap: without bounds a step may be as long as the search wants.
+func minParabolaStepCap(x, d *[1]float64, tiny float64, b *minParabolaBox) float64 {
+	return math.Inf(1)
+}
+
 // minParabolaTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -944,10 +1095,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func minParabolaAcceptLow(x, d *[1]float64, low *minParabolaLinePoint, lowGradient *[1]float64, calls int, xt, gt *[1]float64) minParabolaLineResult {
-	minParabolaMoveTo(xt, x, low.step, d)
+func minParabolaAcceptLow(x, d *[1]float64, low *minParabolaLinePoint, lowGradient *[1]float64, calls int, xt, gt *[1]float64, diffs *minParabolaDifferences) minParabolaLineResult {
+	minParabolaTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return minParabolaLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: minParabolaSearchAccepted}
+}
+
+// minParabolaTrialPoint is x + t·d.
+func minParabolaTrialPoint(out, x *[1]float64, t float64, d *[1]float64, b *minParabolaBox) {
+	minParabolaMoveTo(out, x, t, d)
 }
 
 // minParabolaMoveTo sets out = x + t·d.

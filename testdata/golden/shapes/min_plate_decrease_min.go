@@ -88,6 +88,9 @@ func MinPlateDecreaseDefaultLimits() MinPlateDecreaseLimits {
 	}
 }
 
+// minPlateDecreaseBox is empty: shapes.toml sets no bounds on MinPlateDecrease.
+type minPlateDecreaseBox struct{}
+
 // MinPlateDecrease minimizes Plate from x0, as shapes.toml specifies.
 //
 // Direction steepest: steepest descent, d = −∇f; no memory, linear convergence.
@@ -105,7 +108,7 @@ func MinPlateDecrease(x0 [2]float32) MinPlateDecreaseResult {
 
 // MinPlateDecreaseWithLimits is MinPlateDecrease with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func MinPlateDecreaseWithLimits(x0 [2]float32, limits MinPlateDecreaseLimits) MinPlateDecreaseResult {
-	out := minPlateDecreaseMinimize(x0, limits)
+	out := minPlateDecreaseMinimize(x0, limits, minPlateDecreaseBox{})
 	return MinPlateDecreaseResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -157,27 +160,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func minPlateDecreaseMinimize(x0 [2]float32, lim MinPlateDecreaseLimits) minPlateDecreaseOutcome {
-	out := minPlateDecreaseOutcome{x: x0, status: MinPlateDecreaseOutOfEvaluations, gradient: float32(math.NaN())}
+func minPlateDecreaseMinimize(x0 [2]float32, lim MinPlateDecreaseLimits, bounds minPlateDecreaseBox) minPlateDecreaseOutcome {
+	x := x0
+	minPlateDecreaseEnterBox(&x, &bounds)
+	out := minPlateDecreaseOutcome{x: x, status: MinPlateDecreaseOutOfEvaluations, gradient: float32(math.NaN())}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := Plate(&x)
 	out.f, out.evaluations = fx, 1
 	if !minPlateDecreaseFinite(fx) || !minPlateDecreaseFiniteVec(&x) {
 		out.status = MinPlateDecreaseNonFiniteStart
 		return out
 	}
-	var diffs minPlateDecreaseDifferences
+	diffs := minPlateDecreaseDifferences{bounds: bounds}
 	calls, ok := minPlateDecreaseCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+minPlateDecreaseDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [2]float32
-	minPlateDecreaseDerivative(&x, fx, &g, &diffs)
-	out.evaluations += minPlateDecreaseDerivativeCost
+	out.evaluations += minPlateDecreaseDerivative(&x, fx, &g, &diffs)
 
 	if !minPlateDecreaseFiniteVec(&g) {
 		out.status = MinPlateDecreaseNonFiniteGradient
@@ -210,7 +213,7 @@ func minPlateDecreaseMinimize(x0 [2]float32, lim MinPlateDecreaseLimits) minPlat
 		case !confirmed:
 			minPlateDecreaseGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := minPlateDecreaseGradientMeasure(&g, &e, &x, fx)
+		measure, floor := minPlateDecreaseStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, minPlateDecreaseLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -249,16 +252,17 @@ func minPlateDecreaseMinimize(x0 [2]float32, lim MinPlateDecreaseLimits) minPlat
 			if rises >= 8 {
 				return best.ending(MinPlateDecreaseDiverged, out.iterations, out.evaluations)
 			}
+			minPlateDecreaseCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(MinPlateDecreaseOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		minPlateDecreaseSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := minPlateDecreaseDot(&g, &d)
 		if !(now < 0) || !minPlateDecreaseFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			minPlateDecreaseSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = minPlateDecreaseDot(&g, &d)
 		}
 		first := float32(minPlateDecreaseStepInitial)
@@ -266,7 +270,7 @@ func minPlateDecreaseMinimize(x0 [2]float32, lim MinPlateDecreaseLimits) minPlat
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := minPlateDecreaseTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := minPlateDecreaseLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := minPlateDecreaseLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case minPlateDecreaseSearchOutOfBudget:
@@ -302,8 +306,7 @@ func minPlateDecreaseMinimize(x0 [2]float32, lim MinPlateDecreaseLimits) minPlat
 				}
 				return best.ending(MinPlateDecreaseOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			minPlateDecreaseDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += minPlateDecreaseDerivativeCost
+			out.evaluations += minPlateDecreaseDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		minPlateDecreaseDifference(&s, &xt, &x)
@@ -344,6 +347,9 @@ func (o minPlateDecreaseOutcome) ending(end MinPlateDecreaseStatus, iterations, 
 	return o
 }
 
+// minPlateDecreaseEnterBox: without bounds every start is inside.
+func minPlateDecreaseEnterBox(x *[2]float32, b *minPlateDecreaseBox) {}
+
 // minPlateDecreaseFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -366,15 +372,17 @@ func minPlateDecreaseFiniteVec(x *[2]float32) bool {
 	return true
 }
 
-// minPlateDecreaseDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// minPlateDecreaseDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type minPlateDecreaseDifferences struct {
 	ratio     [2]float32
 	curvature [2]float32
 	second    [2]float32 // |f″| along e_i, for the rounding floor of a stall (see minPlateDecreaseRoundingFloor)
+	bounds    minPlateDecreaseBox
 }
 
 // minPlateDecreaseCalibrate chooses each central-difference interval from the
@@ -396,19 +404,45 @@ func minPlateDecreaseCalibrate(x *[2]float32, fx float32, diffs *minPlateDecreas
 	var slope [2]float32
 	scale := minPlateDecreaseAbs(fx)
 	quarter := minPlateDecreaseSquareRoot(minPlateDecreaseSquareRoot(minPlateDecreaseUnitRoundoff)) // u^(1/4)
+	calls := 0
 	for i := range probe {
-		if 4*(i+1) > budget {
-			return 4 * i, false
+		if calls+4 > budget {
+			return calls, false
 		}
 		xi := probe[i]
 		bar := quarter * minPlateDecreaseLarger(1, minPlateDecreaseAbs(xi))
+		lower, upper := minPlateDecreaseCoordinateRange(i, diffs)
+		if xi+2*bar > upper || xi-2*bar < lower {
+			// At a bound: three probes on the side with room, at h, 2h
+			// and 3h, for f‴ ≈ (f(3h) − 3f(2h) + 3f(h) − f(0))/h³ (the
+			// third forward difference).
+			h := minPlateDecreaseOneSide(xi, bar, 3, lower, upper)
+			if h == 0 {
+				continue // fixed by equal bounds
+			}
+			var f [3]float32
+			for k := range f {
+				probe[i], _ = minPlateDecreaseProbeStep(xi, float32(k+1)*h, lower, upper)
+				f[k] = Plate(&probe)
+				scale = minPlateDecreaseLarger(scale, minPlateDecreaseMagnitude(f[k]))
+			}
+			probe[i] = xi
+			calls += 3
+			if minPlateDecreaseFinite(f[0]) && minPlateDecreaseFinite(f[1]) && minPlateDecreaseFinite(f[2]) {
+				diffs.curvature[i] = minPlateDecreaseAbs(f[2]-3*f[1]+3*f[0]-fx) / minPlateDecreaseAbs(h*h*h)
+				diffs.second[i] = minPlateDecreaseAbs(fx-2*f[0]+f[1]) / (h * h)
+				slope[i] = (-3*fx + 4*f[0] - f[1]) / (2 * h)
+			}
+			continue
+		}
 		var f [4]float32
 		for k, m := range [4]float32{2, 1, -1, -2} {
-			probe[i], _ = minPlateDecreaseProbeStep(xi, m*bar)
+			probe[i], _ = minPlateDecreaseProbeStep(xi, m*bar, lower, upper)
 			f[k] = Plate(&probe)
 			scale = minPlateDecreaseLarger(scale, minPlateDecreaseMagnitude(f[k]))
 		}
 		probe[i] = xi
+		calls += 4
 		if minPlateDecreaseFinite(f[0]) && minPlateDecreaseFinite(f[1]) && minPlateDecreaseFinite(f[2]) && minPlateDecreaseFinite(f[3]) {
 			diffs.curvature[i] = minPlateDecreaseAbs(f[0]-2*f[1]+2*f[2]-f[3]) / (2 * bar * bar * bar)
 			diffs.second[i] = minPlateDecreaseAbs(f[1]-2*fx+f[2]) / (bar * bar)
@@ -427,7 +461,7 @@ func minPlateDecreaseCalibrate(x *[2]float32, fx float32, diffs *minPlateDecreas
 		diffs.ratio[i] = minPlateDecreaseClampBetween(h, 64*minPlateDecreaseUnitRoundoff*s, bar) / s
 		diffs.curvature[i] = third
 	}
-	return 4 * len(probe), true
+	return calls, true
 }
 
 // minPlateDecreaseAbs returns |v|.
@@ -453,10 +487,48 @@ func minPlateDecreaseLarger(a, b float32) float32 {
 	return b
 }
 
-// minPlateDecreaseProbeStep returns x_i moved by h, and the step actually representable.
-func minPlateDecreaseProbeStep(xi, h float32) (float32, float32) {
-	moved := xi + h
+// minPlateDecreaseCoordinateRange: without bounds any probe is allowed.
+func minPlateDecreaseCoordinateRange(i int, diffs *minPlateDecreaseDifferences) (lower, upper float32) {
+	return float32(math.Inf(-1)), float32(math.Inf(1))
+}
+
+// minPlateDecreaseOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func minPlateDecreaseOneSide(xi, h, reach, lower, upper float32) float32 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
+}
+
+// minPlateDecreaseProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func minPlateDecreaseProbeStep(xi, h, lower, upper float32) (float32, float32) {
+	moved := minPlateDecreaseClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// minPlateDecreaseClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func minPlateDecreaseClampBetween(v, a, b float32) float32 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
 }
 
 // minPlateDecreaseMagnitude is |v| for a finite v and 0 otherwise: a probe that fell
@@ -492,42 +564,85 @@ func minPlateDecreaseCubeRoot(v float32) float32 {
 	return float32(math.Cbrt(float64(v)))
 }
 
-// minPlateDecreaseClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func minPlateDecreaseClampBetween(v, a, b float32) float32 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
-}
-
 // minPlateDecreaseDerivative approximates the gradient by central differences,
 //
 //	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),
 //
 // with the intervals minPlateDecreaseCalibrate chose, h_i = ratio_i·max(1, |x_i|)
-// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls; fx is
-// not needed.
-func minPlateDecreaseDerivative(x *[2]float32, fx float32, g *[2]float32, diffs *minPlateDecreaseDifferences) {
+// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls. Where
+// a bound leaves no room on one side, the three-point endpoint formula on
+// the other side takes its place at the same cost (see parabola); a
+// variable fixed by equal bounds costs nothing and gets 0.
+func minPlateDecreaseDerivative(x *[2]float32, fx float32, g *[2]float32, diffs *minPlateDecreaseDifferences) int {
 	probe := *x
+	calls := 0
 	for i := range probe {
 		xi := probe[i]
-		h := diffs.ratio[i] * minPlateDecreaseLarger(1, minPlateDecreaseAbs(xi))
-		up, _ := minPlateDecreaseProbeStep(xi, h)
-		down, _ := minPlateDecreaseProbeStep(xi, -h)
-		probe[i] = up
-		fUp := Plate(&probe)
-		probe[i] = down
-		fDown := Plate(&probe)
-		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
-		probe[i] = xi
+		h, oneSided := minPlateDecreaseCentralInterval(x, i, diffs)
+		lower, upper := minPlateDecreaseCoordinateRange(i, diffs)
+		switch {
+		case h == 0:
+			g[i] = 0 // fixed by equal bounds
+			continue
+		case oneSided:
+			g[i], _, _ = minPlateDecreaseSidedProbes(&probe, i, fx, h, lower, upper) // the three-point endpoint formula
+		default:
+			up, _ := minPlateDecreaseProbeStep(xi, h, lower, upper)
+			down, _ := minPlateDecreaseProbeStep(xi, -h, lower, upper)
+			probe[i] = up
+			fUp := Plate(&probe)
+			probe[i] = down
+			fDown := Plate(&probe)
+			g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+			probe[i] = xi
+		}
+		calls += 2
 	}
+	return calls
+}
+
+// minPlateDecreaseCentralInterval is the interval of coordinate i at x, ratio_i·max(1,
+// |x_i|), and whether the box leaves room for probes on both sides; when
+// it does not, the interval is signed towards the side with room for
+// probes at h and 2h, and shortened where the box is narrower than that
+// (see minPlateDecreaseOneSide).
+func minPlateDecreaseCentralInterval(x *[2]float32, i int, diffs *minPlateDecreaseDifferences) (h float32, oneSided bool) {
+	lower, upper := minPlateDecreaseCoordinateRange(i, diffs)
+	h = diffs.ratio[i] * minPlateDecreaseLarger(1, minPlateDecreaseAbs(x[i]))
+	if x[i]+h <= upper && x[i]-h >= lower {
+		return h, false
+	}
+	return minPlateDecreaseOneSide(x[i], h, 2, lower, upper), true
+}
+
+// minPlateDecreaseSidedProbes evaluates f at x moved along coordinate i by h and by 2h,
+// kept within [lower, upper], and returns the slope and second derivative
+// of the parabola through them and (x, fx) (see parabola), and the larger
+// magnitude of the two values.
+func minPlateDecreaseSidedProbes(probe *[2]float32, i int, fx, h, lower, upper float32) (slope, second, size float32) {
+	xi := probe[i]
+	near, a := minPlateDecreaseProbeStep(xi, h, lower, upper)
+	far, b := minPlateDecreaseProbeStep(xi, 2*h, lower, upper)
+	probe[i] = near
+	fNear := Plate(probe)
+	probe[i] = far
+	fFar := Plate(probe)
+	probe[i] = xi
+	slope, second = minPlateDecreaseParabola(fx, a, fNear, b, fFar)
+	return slope, second, minPlateDecreaseLarger(minPlateDecreaseMagnitude(fNear), minPlateDecreaseMagnitude(fFar))
+}
+
+// minPlateDecreaseParabola returns the first and second derivatives at 0 of the parabola
+// through (0, f0), (a, fa) and (b, fb), for probes on one side of a bound.
+// With b = 2a they are the three-point endpoint formulas
+// f′ ≈ (−3f0 + 4fa − fb)/(2a), error a²|f‴|/3, and
+// f″ ≈ (f0 − 2fa + fb)/a² (Burden & Faires, Numerical Analysis, §4.1
+// and §4.1's second-derivative formulas, from memory); written for unequal
+// a and b, so that the representable steps can be used.
+func minPlateDecreaseParabola(f0, a, fa, b, fb float32) (slope, second float32) {
+	slope = -(a+b)/(a*b)*f0 + b/(a*(b-a))*fa - a/(b*(b-a))*fb
+	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
+	return slope, second
 }
 
 // minPlateDecreaseDirection is steepest descent, d = −∇f(x): the direction of
@@ -543,8 +658,22 @@ func (s *minPlateDecreaseDirection) compute(g, d *[2]float32) {
 
 func (s *minPlateDecreaseDirection) update(step, change *[2]float32) {}
 
+// firstTrial is the scaled trial (minPlateDecreaseScaledTrial), grown at most by
+// 2^(minPlateDecreaseStepTrials/2) over the previous step t. Steepest descent is the one
+// direction paired with backtracking that scales its first trial, and
+// backtracking can only shrink: after a step that nearly solved the
+// problem the slope collapses, the ratio can exceed the range its trials
+// halve through, and the search would end with no acceptable step. The
+// cap keeps at least half the trials below the previous step (a safeguard
+// of our own; cg, whose ratios can legitimately be that large on badly
+// scaled problems, always pairs with a Wolfe search, which expands and
+// zooms instead).
 func (s *minPlateDecreaseDirection) firstTrial(t, slope, now float32) float32 {
-	return minPlateDecreaseScaledTrial(t, slope, now)
+	next := minPlateDecreaseScaledTrial(t, slope, now)
+	if reach := t * float32(math.Ldexp(1, minPlateDecreaseStepTrials/2)); next > reach {
+		return reach
+	}
+	return next
 }
 
 // minPlateDecreaseNegate sets out = −x.
@@ -613,13 +742,13 @@ func minPlateDecreaseConfirmGradient(x *[2]float32, fx float32, g, e *[2]float32
 		wide.ratio[i] *= 2
 	}
 	var doubled [2]float32
-	minPlateDecreaseDerivative(x, fx, g, diffs)
-	minPlateDecreaseDerivative(x, fx, &doubled, &wide)
+	calls += minPlateDecreaseDerivative(x, fx, g, diffs)
+	calls += minPlateDecreaseDerivative(x, fx, &doubled, &wide)
 	minPlateDecreaseGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * minPlateDecreaseAbs(g[i]-doubled[i])
 	}
-	return calls + 2*minPlateDecreaseDerivativeCost, true
+	return calls, true
 }
 
 // minPlateDecreaseGradientError bounds each central difference's error by twice its
@@ -629,8 +758,16 @@ func minPlateDecreaseConfirmGradient(x *[2]float32, fx float32, g, e *[2]float32
 func minPlateDecreaseGradientError(x *[2]float32, fx float32, g, e *[2]float32, diffs *minPlateDecreaseDifferences) {
 	noise := minPlateDecreaseNoiseLevel(x, fx, g)
 	for i := range e {
-		h := diffs.ratio[i] * minPlateDecreaseLarger(1, minPlateDecreaseAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		h, oneSided := minPlateDecreaseCentralInterval(x, i, diffs)
+		h = minPlateDecreaseAbs(h)
+		switch {
+		case h == 0:
+			e[i] = 0 // fixed by equal bounds
+		case oneSided:
+			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+		default:
+			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		}
 	}
 }
 
@@ -652,6 +789,11 @@ func minPlateDecreaseRoundingFloor(x, g, e *[2]float32, diffs *minPlateDecreaseD
 // calibration, which minPlateDecreaseConfirmGradient has just made at x.
 func minPlateDecreaseDiagonalCurvature(x, g *[2]float32, diffs *minPlateDecreaseDifferences, h *[2]float32) {
 	*h = diffs.second
+}
+
+// minPlateDecreaseStationarity measures the gradient itself.
+func minPlateDecreaseStationarity(g, e, x *[2]float32, fx float32, b *minPlateDecreaseBox) (measure, floor float32) {
+	return minPlateDecreaseGradientMeasure(g, e, x, fx)
 }
 
 // minPlateDecreaseGradientMeasure is the scale-free measure
@@ -687,6 +829,14 @@ func minPlateDecreaseStepWithin(s, x *[2]float32, tol float32) bool {
 	return true
 }
 
+// minPlateDecreaseCurvaturePair: without bounds the pair is used as it is.
+func minPlateDecreaseCurvaturePair(s, y, x *[2]float32, b *minPlateDecreaseBox) {}
+
+// minPlateDecreaseSearchDirection is the direction's own.
+func minPlateDecreaseSearchDirection(dir *minPlateDecreaseDirection, x, g, d *[2]float32, b *minPlateDecreaseBox) {
+	dir.compute(g, d)
+}
+
 // minPlateDecreaseDot returns aᵀb.
 func minPlateDecreaseDot(a, b *[2]float32) float32 {
 	var s float32
@@ -714,7 +864,7 @@ func minPlateDecreaseTinyStep(x, d *[2]float32, tol float32) float32 {
 // acceptance test holds, taking t ← next trial after each
 // failure, by fixed shrink or by interpolation (Nocedal & Wright 2006,
 // Algorithm 3.1 and §3.5). A non-finite value fails like any trial.
-func minPlateDecreaseLineSearch(x *[2]float32, fx float32, d *[2]float32, slope, first, tiny float32, budget int, xt, gt *[2]float32, diffs *minPlateDecreaseDifferences) minPlateDecreaseLineResult {
+func minPlateDecreaseLineSearch(x *[2]float32, fx float32, g, d *[2]float32, slope, first, tiny float32, budget int, xt, gt *[2]float32, diffs *minPlateDecreaseDifferences) minPlateDecreaseLineResult {
 	t := first
 	var previous, fPrevious float32
 	var trend minPlateDecreaseRiseTrend
@@ -725,9 +875,9 @@ func minPlateDecreaseLineSearch(x *[2]float32, fx float32, d *[2]float32, slope,
 		if trial >= budget {
 			return minPlateDecreaseLineResult{calls: trial, end: minPlateDecreaseSearchOutOfBudget}
 		}
-		minPlateDecreaseMoveTo(xt, x, t, d)
+		minPlateDecreaseTrialPoint(xt, x, t, d, &diffs.bounds)
 		ft := Plate(xt)
-		if minPlateDecreaseFinite(ft) && minPlateDecreaseAcceptable(fx, ft, t, slope) {
+		if minPlateDecreaseFinite(ft) && minPlateDecreaseAcceptable(fx, ft, t, slope, x, xt, g) {
 			return minPlateDecreaseLineResult{step: t, value: ft, calls: trial + 1, end: minPlateDecreaseSearchAccepted}
 		}
 		trend.add(x, xt, d, t, ft-fx, fx)
@@ -830,6 +980,11 @@ const (
 	minPlateDecreaseSearchDiverged                                     // a fixed step's value overflowed
 )
 
+// minPlateDecreaseTrialPoint is x + t·d.
+func minPlateDecreaseTrialPoint(out, x *[2]float32, t float32, d *[2]float32, b *minPlateDecreaseBox) {
+	minPlateDecreaseMoveTo(out, x, t, d)
+}
+
 // minPlateDecreaseMoveTo sets out = x + t·d.
 func minPlateDecreaseMoveTo(out, x *[2]float32, t float32, d *[2]float32) {
 	for i := range x {
@@ -840,7 +995,7 @@ func minPlateDecreaseMoveTo(out, x *[2]float32, t float32, d *[2]float32) {
 // minPlateDecreaseAcceptable accepts any decrease, f(x + t·d) < f(x). Simple decrease
 // does not guarantee convergence (Nocedal & Wright 2006, §3.1, the example
 // around Fig. 3.2), which is why the Armijo rule exists.
-func minPlateDecreaseAcceptable(fx, ft, t, slope float32) bool {
+func minPlateDecreaseAcceptable(fx, ft, t, slope float32, x, xt, g *[2]float32) bool {
 	return ft < fx
 }
 

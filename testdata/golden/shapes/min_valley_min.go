@@ -88,6 +88,9 @@ func MinValleyDefaultLimits() MinValleyLimits {
 	}
 }
 
+// minValleyBox is empty: shapes.toml sets no bounds on MinValley.
+type minValleyBox struct{}
+
 // MinValley minimizes Valley.Depth from x0, as shapes.toml specifies.
 //
 // Direction lbfgs: limited-memory BFGS: the last `memory` pairs, two-loop recursion (2·memory·dim numbers).
@@ -105,7 +108,7 @@ func MinValley(recv *Valley, x0 [2]float64) MinValleyResult {
 
 // MinValleyWithLimits is MinValley with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func MinValleyWithLimits(recv *Valley, x0 [2]float64, limits MinValleyLimits) MinValleyResult {
-	out := minValleyMinimize(recv, x0, limits)
+	out := minValleyMinimize(recv, x0, limits, minValleyBox{})
 	return MinValleyResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -159,27 +162,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func minValleyMinimize(recv *Valley, x0 [2]float64, lim MinValleyLimits) minValleyOutcome {
-	out := minValleyOutcome{x: x0, status: MinValleyOutOfEvaluations, gradient: math.NaN()}
+func minValleyMinimize(recv *Valley, x0 [2]float64, lim MinValleyLimits, bounds minValleyBox) minValleyOutcome {
+	x := x0
+	minValleyEnterBox(&x, &bounds)
+	out := minValleyOutcome{x: x, status: MinValleyOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := recv.Depth(x)
 	out.f, out.evaluations = fx, 1
 	if !minValleyFinite(fx) || !minValleyFiniteVec(&x) {
 		out.status = MinValleyNonFiniteStart
 		return out
 	}
-	var diffs minValleyDifferences
+	diffs := minValleyDifferences{bounds: bounds}
 	calls, ok := minValleyCalibrate(recv, &x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+minValleyDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [2]float64
-	minValleyDerivative(recv, &x, fx, &g, &diffs)
-	out.evaluations += minValleyDerivativeCost
+	out.evaluations += minValleyDerivative(recv, &x, fx, &g, &diffs)
 
 	if !minValleyFiniteVec(&g) {
 		out.status = MinValleyNonFiniteGradient
@@ -212,7 +215,7 @@ func minValleyMinimize(recv *Valley, x0 [2]float64, lim MinValleyLimits) minVall
 		case !confirmed:
 			minValleyGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := minValleyGradientMeasure(&g, &e, &x, fx)
+		measure, floor := minValleyStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, minValleyLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -251,16 +254,17 @@ func minValleyMinimize(recv *Valley, x0 [2]float64, lim MinValleyLimits) minVall
 			if rises >= 8 {
 				return best.ending(MinValleyDiverged, out.iterations, out.evaluations)
 			}
+			minValleyCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(MinValleyOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		minValleySearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := minValleyDot(&g, &d)
 		if !(now < 0) || !minValleyFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			minValleySearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = minValleyDot(&g, &d)
 		}
 		first := float64(minValleyStepInitial)
@@ -268,7 +272,7 @@ func minValleyMinimize(recv *Valley, x0 [2]float64, lim MinValleyLimits) minVall
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := minValleyTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := minValleyLineSearch(recv, &x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := minValleyLineSearch(recv, &x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case minValleySearchOutOfBudget:
@@ -304,8 +308,7 @@ func minValleyMinimize(recv *Valley, x0 [2]float64, lim MinValleyLimits) minVall
 				}
 				return best.ending(MinValleyOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			minValleyDerivative(recv, &xt, found.value, &gt, &diffs)
-			out.evaluations += minValleyDerivativeCost
+			out.evaluations += minValleyDerivative(recv, &xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		minValleyDifference(&s, &xt, &x)
@@ -346,6 +349,9 @@ func (o minValleyOutcome) ending(end MinValleyStatus, iterations, evaluations in
 	return o
 }
 
+// minValleyEnterBox: without bounds every start is inside.
+func minValleyEnterBox(x *[2]float64, b *minValleyBox) {}
+
 // minValleyFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -368,15 +374,17 @@ func minValleyFiniteVec(x *[2]float64) bool {
 	return true
 }
 
-// minValleyDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// minValleyDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type minValleyDifferences struct {
 	ratio     [2]float64
 	curvature [2]float64
 	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see minValleyRoundingFloor)
+	bounds    minValleyBox
 }
 
 // minValleyCalibrate: an analytic gradient needs no intervals.
@@ -385,8 +393,9 @@ func minValleyCalibrate(recv *Valley, x *[2]float64, fx float64, diffs *minValle
 }
 
 // minValleyDerivative calls the user's gradient; it costs no objective calls.
-func minValleyDerivative(recv *Valley, x *[2]float64, fx float64, g *[2]float64, diffs *minValleyDifferences) {
+func minValleyDerivative(recv *Valley, x *[2]float64, fx float64, g *[2]float64, diffs *minValleyDifferences) int {
 	*g = recv.DepthGradient(*x)
+	return 0
 }
 
 // minValleyDirection is limited-memory BFGS: d = −H∇f(x) where H is the BFGS
@@ -551,13 +560,13 @@ func minValleyConfirmGradient(recv *Valley, x *[2]float64, fx float64, g, e *[2]
 		wide.ratio[i] *= 2
 	}
 	var doubled [2]float64
-	minValleyDerivative(recv, x, fx, g, diffs)
-	minValleyDerivative(recv, x, fx, &doubled, &wide)
+	calls += minValleyDerivative(recv, x, fx, g, diffs)
+	calls += minValleyDerivative(recv, x, fx, &doubled, &wide)
 	minValleyGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * minValleyAbs(g[i]-doubled[i])
 	}
-	return calls + 2*minValleyDerivativeCost, true
+	return calls, true
 }
 
 // minValleyGradientError: the analytic gradient is taken as exact; its error is
@@ -599,18 +608,60 @@ func minValleyDiagonalCurvature(recv *Valley, x, g *[2]float64, diffs *minValley
 	var moved [2]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := minValleyProbeStep(xi, minValleySquareRoot(minValleyUnitRoundoff)*minValleyLarger(1, minValleyAbs(xi)))
-		probe[i] = up
-		moved = recv.DepthGradient(probe)
-		h[i] = minValleyAbs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := minValleyCoordinateRange(i, diffs)
+		up, delta := minValleyProbeStep(xi, minValleyOneSide(xi, minValleySquareRoot(minValleyUnitRoundoff)*minValleyLarger(1, minValleyAbs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			moved = recv.DepthGradient(probe)
+			h[i] = minValleyAbs(moved[i]-g[i]) / minValleyAbs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// minValleyProbeStep returns x_i moved by h, and the step actually representable.
-func minValleyProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// minValleyCoordinateRange: without bounds any probe is allowed.
+func minValleyCoordinateRange(i int, diffs *minValleyDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// minValleyProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func minValleyProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := minValleyClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// minValleyClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func minValleyClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// minValleyOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func minValleyOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // minValleySquareRoot returns √v.
@@ -626,6 +677,11 @@ func minValleyLarger(a, b float64) float64 {
 		return a
 	}
 	return b
+}
+
+// minValleyStationarity measures the gradient itself.
+func minValleyStationarity(g, e, x *[2]float64, fx float64, b *minValleyBox) (measure, floor float64) {
+	return minValleyGradientMeasure(g, e, x, fx)
 }
 
 // minValleyGradientMeasure is the scale-free measure
@@ -661,6 +717,14 @@ func minValleyStepWithin(s, x *[2]float64, tol float64) bool {
 	return true
 }
 
+// minValleyCurvaturePair: without bounds the pair is used as it is.
+func minValleyCurvaturePair(s, y, x *[2]float64, b *minValleyBox) {}
+
+// minValleySearchDirection is the direction's own.
+func minValleySearchDirection(dir *minValleyDirection, x, g, d *[2]float64, b *minValleyBox) {
+	dir.compute(g, d)
+}
+
 // minValleyTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func minValleyTinyStep(x, d *[2]float64, tol float64) float64 {
@@ -688,7 +752,10 @@ func minValleyTinyStep(x, d *[2]float64, tol float64) float64 {
 // that pass sufficient decrease, since only they can be accepted or become
 // the low end of a bracket; the accepted trial's value and gradient are
 // handed back, so the kernel never pays for them twice. A non-finite trial
-// value counts as a failure of sufficient decrease.
+// value counts as a failure of sufficient decrease. With bounds the
+// search stays on the segment up to the first bound along d (minValleyStepCap): a
+// trial there that meets sufficient decrease with f still falling is
+// accepted as the capped step, which makes that bound active.
 //
 // References:
 //   - P. Wolfe, Convergence conditions for ascent methods, SIAM Review
@@ -697,13 +764,17 @@ func minValleyTinyStep(x, d *[2]float64, tol float64) float64 {
 //     Springer, 2006, §3.1 and §3.5.
 //   - J. J. Moré and D. J. Thuente, Line search algorithms with guaranteed
 //     sufficient decrease, ACM TOMS 20(3):286–307, 1994.
-func minValleyLineSearch(recv *Valley, x *[2]float64, fx float64, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *minValleyDifferences) minValleyLineResult {
+func minValleyLineSearch(recv *Valley, x *[2]float64, fx float64, g, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *minValleyDifferences) minValleyLineResult {
 	low := minValleyLinePoint{value: fx, slope: slope, hasSlope: true} // best trial meeting sufficient decrease; t = 0 at first
 	var high minValleyLinePoint                                        // the other end of the bracket, once bracketed
 	var lowGradient [2]float64                                         // ∇f at low, kept for accepting low from a collapsed bracket
 	bracketed := false
-	var trend minValleyRiseTrend // of the trials failing sufficient decrease
+	var trend minValleyRiseTrend                         // of the trials failing sufficient decrease
+	limit := minValleyStepCap(x, d, tiny, &diffs.bounds) // the first bound along d, when the spec has bounds
 	t := first
+	if t > limit {
+		t = limit
+	}
 	calls := 0
 	for trial := 0; trial < minValleyStepTrials; trial++ {
 		if bracketed && minValleyAbs(high.step-low.step) <= tiny {
@@ -713,12 +784,12 @@ func minValleyLineSearch(recv *Valley, x *[2]float64, fx float64, d *[2]float64,
 			if low.step == 0 {
 				return minValleyLineResult{calls: calls, rising: trend.contradicts(), end: minValleyTinyOrExhausted(minValleyFinite(high.value))}
 			}
-			return minValleyAcceptLow(x, d, &low, &lowGradient, calls, xt, gt)
+			return minValleyAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs)
 		}
 		if calls >= budget {
 			return minValleyLineResult{calls: calls, end: minValleySearchOutOfBudget}
 		}
-		minValleyMoveTo(xt, x, t, d)
+		minValleyTrialPoint(xt, x, t, d, &diffs.bounds)
 		current := minValleyLinePoint{step: t, value: recv.Depth(*xt)}
 		calls++
 		previous := low
@@ -729,8 +800,7 @@ func minValleyLineSearch(recv *Valley, x *[2]float64, fx float64, d *[2]float64,
 			if calls+minValleyDerivativeCost > budget {
 				return minValleyLineResult{calls: calls, end: minValleySearchOutOfBudget}
 			}
-			minValleyDerivative(recv, xt, current.value, gt, diffs)
-			calls += minValleyDerivativeCost
+			calls += minValleyDerivative(recv, xt, current.value, gt, diffs)
 			current.slope, current.hasSlope = minValleyDot(gt, d), true
 			switch {
 			case !minValleyFinite(current.slope):
@@ -741,18 +811,22 @@ func minValleyLineSearch(recv *Valley, x *[2]float64, fx float64, d *[2]float64,
 				high, low, lowGradient = low, current, *gt // Alg. 3.6: the new low's slope points away from high
 			case !bracketed && current.slope >= 0:
 				high, low, lowGradient, bracketed = low, current, *gt, true // Alg. 3.5: φ' ≥ 0 brackets [previous, current]
+			case !bracketed && t >= limit:
+				// Sufficient decrease at the first bound, still falling:
+				// the capped step, where the bound becomes active.
+				return minValleyLineResult{step: t, value: current.value, calls: calls, gradient: true, end: minValleySearchAccepted}
 			default:
 				low, lowGradient = current, *gt
 			}
 		}
 		if bracketed {
 			t = minValleyZoomTrial(&low, &high)
-		} else {
-			t = minValleyExpandTrial(&previous, &current)
+		} else if t = minValleyExpandTrial(&previous, &current); t > limit {
+			t = limit
 		}
 	}
 	if low.step > 0 {
-		return minValleyAcceptLow(x, d, &low, &lowGradient, calls, xt, gt) // sufficient decrease without curvature beats no step
+		return minValleyAcceptLow(x, d, &low, &lowGradient, calls, xt, gt, diffs) // sufficient decrease without curvature beats no step
 	}
 	return minValleyLineResult{calls: calls, rising: trend.contradicts(), end: minValleySearchExhausted}
 }
@@ -839,6 +913,11 @@ func minValleyFaithfulStep(x, xt, d *[2]float64, t float64) bool {
 	return true
 }
 
+// minValleyStepCap: without bounds a step may be as long as the search wants.
+func minValleyStepCap(x, d *[2]float64, tiny float64, b *minValleyBox) float64 {
+	return math.Inf(1)
+}
+
 // minValleyTinyOrExhausted ends a search that has run below the step limit: no
 // decrease was found when the last failure was a finite value, but a
 // non-finite value says nothing about f near x, so the search has simply
@@ -863,10 +942,15 @@ const (
 // or the trials ran out. Its gradient was kept in lowGradient. (When the
 // budget runs out the search ends without a step instead, so that a capped
 // run follows the uncapped run's path up to the cap.)
-func minValleyAcceptLow(x, d *[2]float64, low *minValleyLinePoint, lowGradient *[2]float64, calls int, xt, gt *[2]float64) minValleyLineResult {
-	minValleyMoveTo(xt, x, low.step, d)
+func minValleyAcceptLow(x, d *[2]float64, low *minValleyLinePoint, lowGradient *[2]float64, calls int, xt, gt *[2]float64, diffs *minValleyDifferences) minValleyLineResult {
+	minValleyTrialPoint(xt, x, low.step, d, &diffs.bounds)
 	*gt = *lowGradient
 	return minValleyLineResult{step: low.step, value: low.value, calls: calls, gradient: true, end: minValleySearchAccepted}
+}
+
+// minValleyTrialPoint is x + t·d.
+func minValleyTrialPoint(out, x *[2]float64, t float64, d *[2]float64, b *minValleyBox) {
+	minValleyMoveTo(out, x, t, d)
 }
 
 // minValleyMoveTo sets out = x + t·d.
@@ -921,21 +1005,6 @@ func minValleyModelMinimizer(a, b *minValleyLinePoint) (t float64, ok bool) {
 	}
 	t = b.step - delta*(b.slope+d2-d1)/(b.slope-a.slope+2*d2) // N&W eq. 3.59
 	return t, minValleyFinite(t)
-}
-
-// minValleyClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func minValleyClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
 }
 
 // minValleyExpandTrial picks a larger trial after current met sufficient decrease

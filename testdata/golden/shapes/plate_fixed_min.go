@@ -88,6 +88,9 @@ func MinPlateDefaultLimits() MinPlateLimits {
 	}
 }
 
+// minPlateBox is empty: shapes.toml sets no bounds on MinPlate.
+type minPlateBox struct{}
+
 // MinPlate minimizes Plate from x0, as shapes.toml specifies.
 //
 // Direction steepest: steepest descent, d = −∇f; no memory, linear convergence.
@@ -105,7 +108,7 @@ func MinPlate(x0 [2]float32) MinPlateResult {
 
 // MinPlateWithLimits is MinPlate with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func MinPlateWithLimits(x0 [2]float32, limits MinPlateLimits) MinPlateResult {
-	out := minPlateMinimize(x0, limits)
+	out := minPlateMinimize(x0, limits, minPlateBox{})
 	return MinPlateResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -120,6 +123,7 @@ func MinPlateWithLimits(x0 [2]float32, limits MinPlateLimits) MinPlateResult {
 // Tunables of MinPlate from shapes.toml; the kernels below read them.
 const (
 	minPlateStepInitial    = 0.2                   // step.initial
+	minPlateStepTrials     = 19                    // step.trials
 	minPlateDerivativeCost = 0                     // objective calls per gradient
 	minPlateUnitRoundoff   = 5.960464477539063e-08 // unit roundoff u of the float type
 	minPlateLargestFinite  = 0x1.fffffep127        // the largest finite value of the float type
@@ -155,27 +159,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func minPlateMinimize(x0 [2]float32, lim MinPlateLimits) minPlateOutcome {
-	out := minPlateOutcome{x: x0, status: MinPlateOutOfEvaluations, gradient: float32(math.NaN())}
+func minPlateMinimize(x0 [2]float32, lim MinPlateLimits, bounds minPlateBox) minPlateOutcome {
+	x := x0
+	minPlateEnterBox(&x, &bounds)
+	out := minPlateOutcome{x: x, status: MinPlateOutOfEvaluations, gradient: float32(math.NaN())}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := Plate(&x)
 	out.f, out.evaluations = fx, 1
 	if !minPlateFinite(fx) || !minPlateFiniteVec(&x) {
 		out.status = MinPlateNonFiniteStart
 		return out
 	}
-	var diffs minPlateDifferences
+	diffs := minPlateDifferences{bounds: bounds}
 	calls, ok := minPlateCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+minPlateDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [2]float32
-	minPlateDerivative(&x, fx, &g, &diffs)
-	out.evaluations += minPlateDerivativeCost
+	out.evaluations += minPlateDerivative(&x, fx, &g, &diffs)
 
 	if !minPlateFiniteVec(&g) {
 		out.status = MinPlateNonFiniteGradient
@@ -208,7 +212,7 @@ func minPlateMinimize(x0 [2]float32, lim MinPlateLimits) minPlateOutcome {
 		case !confirmed:
 			minPlateGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := minPlateGradientMeasure(&g, &e, &x, fx)
+		measure, floor := minPlateStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, minPlateLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -247,16 +251,17 @@ func minPlateMinimize(x0 [2]float32, lim MinPlateLimits) minPlateOutcome {
 			if rises >= 8 {
 				return best.ending(MinPlateDiverged, out.iterations, out.evaluations)
 			}
+			minPlateCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(MinPlateOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		minPlateSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := minPlateDot(&g, &d)
 		if !(now < 0) || !minPlateFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			minPlateSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = minPlateDot(&g, &d)
 		}
 		first := float32(minPlateStepInitial)
@@ -264,7 +269,7 @@ func minPlateMinimize(x0 [2]float32, lim MinPlateLimits) minPlateOutcome {
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := minPlateTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := minPlateLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := minPlateLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case minPlateSearchOutOfBudget:
@@ -300,8 +305,7 @@ func minPlateMinimize(x0 [2]float32, lim MinPlateLimits) minPlateOutcome {
 				}
 				return best.ending(MinPlateOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			minPlateDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += minPlateDerivativeCost
+			out.evaluations += minPlateDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		minPlateDifference(&s, &xt, &x)
@@ -342,6 +346,9 @@ func (o minPlateOutcome) ending(end MinPlateStatus, iterations, evaluations int)
 	return o
 }
 
+// minPlateEnterBox: without bounds every start is inside.
+func minPlateEnterBox(x *[2]float32, b *minPlateBox) {}
+
 // minPlateFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -364,15 +371,17 @@ func minPlateFiniteVec(x *[2]float32) bool {
 	return true
 }
 
-// minPlateDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// minPlateDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type minPlateDifferences struct {
 	ratio     [2]float32
 	curvature [2]float32
 	second    [2]float32 // |f″| along e_i, for the rounding floor of a stall (see minPlateRoundingFloor)
+	bounds    minPlateBox
 }
 
 // minPlateCalibrate: an analytic gradient needs no intervals.
@@ -381,8 +390,9 @@ func minPlateCalibrate(x *[2]float32, fx float32, diffs *minPlateDifferences, bu
 }
 
 // minPlateDerivative calls the user's gradient; it costs no objective calls.
-func minPlateDerivative(x *[2]float32, fx float32, g *[2]float32, diffs *minPlateDifferences) {
+func minPlateDerivative(x *[2]float32, fx float32, g *[2]float32, diffs *minPlateDifferences) int {
 	PlateGradient(x, g)
+	return 0
 }
 
 // minPlateDirection is steepest descent, d = −∇f(x): the direction of
@@ -398,8 +408,22 @@ func (s *minPlateDirection) compute(g, d *[2]float32) {
 
 func (s *minPlateDirection) update(step, change *[2]float32) {}
 
+// firstTrial is the scaled trial (minPlateScaledTrial), grown at most by
+// 2^(minPlateStepTrials/2) over the previous step t. Steepest descent is the one
+// direction paired with backtracking that scales its first trial, and
+// backtracking can only shrink: after a step that nearly solved the
+// problem the slope collapses, the ratio can exceed the range its trials
+// halve through, and the search would end with no acceptable step. The
+// cap keeps at least half the trials below the previous step (a safeguard
+// of our own; cg, whose ratios can legitimately be that large on badly
+// scaled problems, always pairs with a Wolfe search, which expands and
+// zooms instead).
 func (s *minPlateDirection) firstTrial(t, slope, now float32) float32 {
-	return minPlateScaledTrial(t, slope, now)
+	next := minPlateScaledTrial(t, slope, now)
+	if reach := t * float32(math.Ldexp(1, minPlateStepTrials/2)); next > reach {
+		return reach
+	}
+	return next
 }
 
 // minPlateNegate sets out = −x.
@@ -468,13 +492,13 @@ func minPlateConfirmGradient(x *[2]float32, fx float32, g, e *[2]float32, diffs 
 		wide.ratio[i] *= 2
 	}
 	var doubled [2]float32
-	minPlateDerivative(x, fx, g, diffs)
-	minPlateDerivative(x, fx, &doubled, &wide)
+	calls += minPlateDerivative(x, fx, g, diffs)
+	calls += minPlateDerivative(x, fx, &doubled, &wide)
 	minPlateGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * minPlateAbs(g[i]-doubled[i])
 	}
-	return calls + 2*minPlateDerivativeCost, true
+	return calls, true
 }
 
 // minPlateGradientError: the analytic gradient is taken as exact; its error is
@@ -516,18 +540,60 @@ func minPlateDiagonalCurvature(x, g *[2]float32, diffs *minPlateDifferences, h *
 	var moved [2]float32
 	for i := range probe {
 		xi := probe[i]
-		up, delta := minPlateProbeStep(xi, minPlateSquareRoot(minPlateUnitRoundoff)*minPlateLarger(1, minPlateAbs(xi)))
-		probe[i] = up
-		PlateGradient(&probe, &moved)
-		h[i] = minPlateAbs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := minPlateCoordinateRange(i, diffs)
+		up, delta := minPlateProbeStep(xi, minPlateOneSide(xi, minPlateSquareRoot(minPlateUnitRoundoff)*minPlateLarger(1, minPlateAbs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			PlateGradient(&probe, &moved)
+			h[i] = minPlateAbs(moved[i]-g[i]) / minPlateAbs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// minPlateProbeStep returns x_i moved by h, and the step actually representable.
-func minPlateProbeStep(xi, h float32) (float32, float32) {
-	moved := xi + h
+// minPlateCoordinateRange: without bounds any probe is allowed.
+func minPlateCoordinateRange(i int, diffs *minPlateDifferences) (lower, upper float32) {
+	return float32(math.Inf(-1)), float32(math.Inf(1))
+}
+
+// minPlateProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func minPlateProbeStep(xi, h, lower, upper float32) (float32, float32) {
+	moved := minPlateClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// minPlateClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func minPlateClampBetween(v, a, b float32) float32 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// minPlateOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func minPlateOneSide(xi, h, reach, lower, upper float32) float32 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // minPlateSquareRoot returns √v.
@@ -543,6 +609,11 @@ func minPlateLarger(a, b float32) float32 {
 		return a
 	}
 	return b
+}
+
+// minPlateStationarity measures the gradient itself.
+func minPlateStationarity(g, e, x *[2]float32, fx float32, b *minPlateBox) (measure, floor float32) {
+	return minPlateGradientMeasure(g, e, x, fx)
 }
 
 // minPlateGradientMeasure is the scale-free measure
@@ -578,6 +649,14 @@ func minPlateStepWithin(s, x *[2]float32, tol float32) bool {
 	return true
 }
 
+// minPlateCurvaturePair: without bounds the pair is used as it is.
+func minPlateCurvaturePair(s, y, x *[2]float32, b *minPlateBox) {}
+
+// minPlateSearchDirection is the direction's own.
+func minPlateSearchDirection(dir *minPlateDirection, x, g, d *[2]float32, b *minPlateBox) {
+	dir.compute(g, d)
+}
+
 // minPlateDot returns aᵀb.
 func minPlateDot(a, b *[2]float32) float32 {
 	var s float32
@@ -606,11 +685,11 @@ func minPlateTinyStep(x, d *[2]float32, tol float32) float32 {
 // loop with a hand-picked step. On a quadratic with Hessian A, steepest
 // descent with step t maps the error e to (I − tA)e, so it converges only
 // when t < 2/λ_max(A) and otherwise oscillates or diverges (closed form).
-func minPlateLineSearch(x *[2]float32, fx float32, d *[2]float32, slope, first, tiny float32, budget int, xt, gt *[2]float32, diffs *minPlateDifferences) minPlateLineResult {
+func minPlateLineSearch(x *[2]float32, fx float32, g, d *[2]float32, slope, first, tiny float32, budget int, xt, gt *[2]float32, diffs *minPlateDifferences) minPlateLineResult {
 	if budget < 1 {
 		return minPlateLineResult{end: minPlateSearchOutOfBudget}
 	}
-	minPlateMoveTo(xt, x, minPlateStepInitial, d)
+	minPlateTrialPoint(xt, x, minPlateStepInitial, d, &diffs.bounds)
 	ft := Plate(xt)
 	if !minPlateFinite(ft) {
 		return minPlateLineResult{calls: 1, end: minPlateSearchDiverged}
@@ -633,11 +712,16 @@ type minPlateSearchEnd uint8
 
 const (
 	minPlateSearchAccepted    minPlateSearchEnd = iota // a step met the rule
-	minPlateSearchExhausted                            // stepTrials trials met none
+	minPlateSearchExhausted                            // minPlateStepTrials trials met none
 	minPlateSearchOutOfBudget                          // the evaluation cap came first
 	minPlateSearchTiny                                 // every step longer than tiny failed to decrease f
 	minPlateSearchDiverged                             // a fixed step's value overflowed
 )
+
+// minPlateTrialPoint is x + t·d.
+func minPlateTrialPoint(out, x *[2]float32, t float32, d *[2]float32, b *minPlateBox) {
+	minPlateMoveTo(out, x, t, d)
+}
 
 // minPlateMoveTo sets out = x + t·d.
 func minPlateMoveTo(out, x *[2]float32, t float32, d *[2]float32) {

@@ -1,0 +1,36 @@
+package rules
+
+// Feature is a part of a spec that is there or not, such as
+// [minimizer.bounds]: the template alternatives it picks either way.
+type Feature struct {
+	Table      string // the spec table that turns it on
+	Summary    string
+	Math       string
+	References []string
+	// Off and On are the alternatives picked without and with it; an
+	// entry's OnPicks (Entry.BoundedPicks for bounds) override On.
+	Off, On Picks
+}
+
+// Bounds is [minimizer.bounds], the box lower ≤ x ≤ upper.
+var Bounds = &Feature{
+	Table:   "bounds",
+	Summary: "box bounds lower ≤ x ≤ upper (either side optional per variable, ±inf allowed); the start is projected into the box and the objective is never evaluated outside it",
+	Math: "x(t) = P(x + t·d), P the projection onto the box; Armijo along that arc, f(x(t)) ≤ f(x) + c1·∇fᵀ(x(t) − x); " +
+		"d from the direction's rule on the free variables of the ε-active set, −∇f on the others; Wolfe rules capped at the first bound; " +
+		"converged when the projected gradient passes the stop test; differences one-sided at a bound",
+	References: []string{Bertsekas1976, Bertsekas1982, Kelley1999 + ", §5.5.3 (the reduced quasi-Newton update)"},
+	Off: Picks{"enterBox": "openStart", "trialPoint": "straightTrial", "stepCap": "noCap",
+		"searchDirection": "freeDirection", "stationarity": "unboundedMeasure", "coordinateRange": "wholeLine",
+		"curvaturePair": "fullPair"},
+	On: Picks{"enterBox": "projectStart", "trialPoint": "projectedTrial", "stepCap": "firstBound",
+		"searchDirection": "boundDirection", "stationarity": "projectedMeasure", "coordinateRange": "boxRange",
+		"curvaturePair": "freePair"},
+}
+
+// Citations of the bounds.
+const (
+	Bertsekas1976 = "D. P. Bertsekas, On the Goldstein–Levitin–Polyak gradient projection method, IEEE Trans. Automatic Control 21(2):174–184, 1976"
+	Kelley1999    = "C. T. Kelley, Iterative Methods for Optimization, SIAM, 1999"
+	Bertsekas1982 = "D. P. Bertsekas, Projected Newton methods for optimization problems with simple constraints, SIAM J. Control Optim. 20(2):221–246, 1982"
+)
