@@ -53,8 +53,8 @@ type Minimizer struct {
 	start     any
 	expectX   any
 	bounds    map[string]any // [minimizer.bounds] as decoded, nil without it
-	keyPrefix string // "minimizer.N"
-	problems  int    // problems found in this entry
+	keyPrefix string         // "minimizer.N"
+	problems  int            // problems found in this entry
 }
 
 // Valid reports whether the entry had no problem of its own.
