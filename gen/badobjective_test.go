@@ -190,6 +190,41 @@ lower = [0.0, 0.0]
 x = [1.0, -1.0]`, []misfitWant{
 		misfitInSpec(6, 6, "expect.x lies outside the bounds (unknown 1: -1 is not within [0, inf]); no run can end there"),
 	}},
+	{"scale of the wrong shape", `objective = "ArrayObj"
+start = [1.0, 2.0]
+scale = [1.0, 2.0, 3.0]`, []misfitWant{
+		misfitInSpec(3, 10, "scale has 3 values, the objective has 2 unknowns"),
+	}},
+	{"scale on a scalar as a list", `objective = "ScalarObj"
+start = 1.0
+scale = [2.0]`, []misfitWant{
+		misfitInSpec(3, 10, "scale must be a single number: ScalarObj takes a scalar"),
+	}},
+	{"scale a number for an array", `objective = "ArrayObj"
+start = [1.0, 2.0]
+scale = 2.0`, []misfitWant{
+		misfitInSpec(3, 9, "scale must be an array of 2 numbers, one typical magnitude per unknown"),
+	}},
+	{"scale not numbers", `objective = "ArrayObj"
+start = [1.0, 2.0]
+scale = "big"`, []misfitWant{
+		misfitInSpec(3, 9, "scale must be a number or an array of numbers"),
+	}},
+	{"scale zero", `objective = "ArrayObj"
+start = [1.0, 2.0]
+scale = [1.0, 0.0]`, []misfitWant{
+		misfitInSpec(3, 15, "scale must be a positive, finite typical magnitude within [1e-30, 1e30] (unknown 1 has 0)"),
+	}},
+	{"scale negative", `objective = "ScalarObj"
+start = 1.0
+scale = -2.0`, []misfitWant{
+		misfitInSpec(3, 9, "scale must be a positive, finite typical magnitude within [1e-30, 1e30] (unknown 0 has -2)"),
+	}},
+	{"scale not finite", `objective = "ArrayObj"
+start = [1.0, 2.0]
+scale = [inf, nan]`, []misfitWant{
+		misfitInSpec(3, 10, "scale must be a positive, finite typical magnitude within [1e-30, 1e30] (unknown 0 has inf)"),
+	}},
 	{"objective not found", `objective = "Missing"
 start = 1.0`, []misfitWant{
 		misfitInSpec(1, 13, "objective Missing: no such function in package bad"),

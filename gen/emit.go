@@ -36,6 +36,7 @@ func emitMinimizer(w io.Writer, p *Plan, choice kernelChoice) error {
 	emitTypes(f, p)
 	emitBox(f, p)
 	emitEntry(f, p, kernels.entryName)
+	emitScaling(f, p)
 	emitTunables(f, p, kernels.uses)
 	var buf bytes.Buffer
 	if err := f.Render(&buf); err != nil {
@@ -149,6 +150,9 @@ func emitTypes(f *jen.File, p *Plan) {
 		jen.Id("Status").Id(name+"Status").Comment("why the run stopped; check Status.Converged()"),
 	)
 	f.Commentf("%sLimits are the stop limits of one run. Pass them to %sWithLimits to change them at run time; %sDefaultLimits returns the spec's.", name, name, name)
+	if p.Scaled() {
+		f.Commentf("Gradient and Step apply to the scaled unknowns zᵢ = xᵢ/sᵢ of %s (s the scale of %s): to sᵢ·∂f/∂xᵢ and to |Δzᵢ| ≤ Step·(|zᵢ| + 1).", name, p.SpecName)
+	}
 	var fields []jen.Code
 	defaults := jen.Dict{}
 	for _, q := range rules.Params() {
@@ -184,8 +188,24 @@ func emitBox(f *jen.File, p *Plan) {
 	f.Type().Id(name).Struct(jen.List(jen.Id("lower"), jen.Id("upper")).Index(jen.Lit(p.Dim)).Id(p.Shape.Elem))
 }
 
-// boxValue is the box the entry point hands the kernels.
-func boxValue(p *Plan) *jen.Statement {
+// boxValue is the box of [minimizer.bounds] in the user's units.
+func boxValue(p *Plan) *jen.Statement { return boxLiteral(p, p.M.Lower, p.M.Upper) }
+
+// kernelBoxValue is the box the entry point hands the kernels: with scale,
+// in their unknowns zᵢ = xᵢ/sᵢ (rounded; prefixUnscaled clamps to the
+// user's box, so the objective never sees a point outside it).
+func kernelBoxValue(p *Plan) *jen.Statement {
+	if !p.Bounded || !p.Scaled() {
+		return boxValue(p)
+	}
+	lower, upper := make([]float64, p.Dim), make([]float64, p.Dim)
+	for i, s := range p.M.Scale {
+		lower[i], upper[i] = p.M.Lower[i]/s, p.M.Upper[i]/s
+	}
+	return boxLiteral(p, lower, upper)
+}
+
+func boxLiteral(p *Plan, lower, upper []float64) *jen.Statement {
 	name := p.Prefix + "Box"
 	if !p.Bounded {
 		return jen.Id(name).Values()
@@ -204,7 +224,101 @@ func boxValue(p *Plan) *jen.Statement {
 		}
 		return jen.Index(jen.Lit(p.Dim)).Id(p.Shape.Elem).Values(items...)
 	}
-	return jen.Id(name).Values(jen.Dict{jen.Id("lower"): side(p.M.Lower), jen.Id("upper"): side(p.M.Upper)})
+	return jen.Id(name).Values(jen.Dict{jen.Id("lower"): side(lower), jen.Id("upper"): side(upper)})
+}
+
+// vecLiteral is [N]T{v…}.
+func vecLiteral(p *Plan, vals []float64) *jen.Statement {
+	items := make([]jen.Code, len(vals))
+	for i, v := range vals {
+		items[i] = jen.Op(formatFloat(v))
+	}
+	return jen.Index(jen.Lit(p.Dim)).Id(p.Shape.Elem).Values(items...)
+}
+
+// emitScaling writes, for a spec with scale, the conversions between the
+// user's unknowns x and the kernels' zᵢ = xᵢ/sᵢ and the adapters through
+// which the kernels call the user's functions:
+//
+//	func prefixScaled(x [N]T) [N]T                  // zᵢ = xᵢ/sᵢ
+//	func prefixUnscaled(z *[N]T) [N]T               // xᵢ = sᵢ·zᵢ, within the box
+//	func prefixValueAt([recv *R,] z *[N]T) T        // f(x)
+//	func prefixGradientAt([recv *R,] z, g *[N]T)    // gᵢ = sᵢ·∂f/∂xᵢ (chain rule)
+func emitScaling(f *jen.File, p *Plan) {
+	if !p.Scaled() {
+		return
+	}
+	s := p.Shape
+	vec := jen.Index(jen.Lit(p.Dim)).Id(s.Elem)
+	ptr := func() *jen.Statement { return jen.Op("*").Add(vec.Clone()) }
+	scale := jen.Id("s").Op(":=").Add(vecLiteral(p, p.M.Scale))
+	f.Commentf("%sScaled is the kernels' point for the user's x: zᵢ = xᵢ/sᵢ, s the scale of %s.", p.Prefix, p.SpecName)
+	f.Func().Id(p.Prefix+"Scaled").Params(jen.Id("x").Add(vec.Clone())).Add(vec.Clone()).Block(
+		scale.Clone(),
+		jen.For(jen.Id("i").Op(":=").Range().Id("x")).Block(jen.Id("x").Index(jen.Id("i")).Op("/=").Id("s").Index(jen.Id("i"))),
+		jen.Return(jen.Id("x")),
+	)
+	unscale := []jen.Code{
+		scale.Clone(),
+		jen.Var().Id("x").Add(vec.Clone()),
+		jen.For(jen.Id("i").Op(":=").Range().Id("x")).Block(jen.Id("x").Index(jen.Id("i")).Op("=").Id("s").Index(jen.Id("i")).Op("*").Id("z").Index(jen.Id("i"))),
+	}
+	doc := fmt.Sprintf("%sUnscaled is the user's point for the kernels' z: xᵢ = sᵢ·zᵢ", p.Prefix)
+	if p.Bounded {
+		doc += ", kept within the box of [minimizer.bounds], which rounding of zᵢ's bounds could leave by an ulp"
+		unscale = append(unscale,
+			jen.Id("b").Op(":=").Add(boxValue(p)),
+			jen.For(jen.Id("i").Op(":=").Range().Id("x")).Block(
+				jen.Id("x").Index(jen.Id("i")).Op("=").Min(jen.Max(jen.Id("x").Index(jen.Id("i")), jen.Id("b").Dot("lower").Index(jen.Id("i"))), jen.Id("b").Dot("upper").Index(jen.Id("i"))),
+			))
+	}
+	f.Comment(doc + ".")
+	f.Func().Id(p.Prefix + "Unscaled").Params(jen.Id("z").Add(ptr())).Add(vec.Clone()).Block(append(unscale, jen.Return(jen.Id("x")))...)
+
+	var recv []jen.Code
+	callee := func(name string) *jen.Statement { return jen.Id(name) }
+	if s.Receiver != "" {
+		recv = []jen.Code{jen.Id("recv").Op("*").Id(s.Receiver)}
+		callee = func(name string) *jen.Statement { return jen.Id("recv").Dot(name) }
+	}
+	x := jen.Id("x").Op(":=").Id(p.Prefix + "Unscaled").Call(jen.Id("z"))
+	var arg jen.Code
+	switch s.Arg {
+	case ArgScalar:
+		arg = jen.Id("x").Index(jen.Lit(0))
+	case ArgArray:
+		arg = jen.Id("x")
+	case ArgPointer:
+		arg = jen.Op("&").Id("x")
+	default:
+		arg = jen.Id("x").Index(jen.Op(":"))
+	}
+	f.Commentf("%sValueAt is the objective at the kernels' z.", p.Prefix)
+	f.Func().Id(p.Prefix+"ValueAt").Params(append(recv, jen.Id("z").Add(ptr()))...).Id(s.Elem).Block(
+		x.Clone(),
+		jen.Return(callee(s.Objective).Call(arg)),
+	)
+	if s.Gradient == "" {
+		return
+	}
+	var call jen.Code
+	switch s.Grad {
+	case GradScalar:
+		call = jen.Id("g").Index(jen.Lit(0)).Op("=").Add(callee(s.Gradient).Call(jen.Id("x").Index(jen.Lit(0))))
+	case GradArray:
+		call = jen.Op("*").Id("g").Op("=").Add(callee(s.Gradient).Call(jen.Id("x")))
+	case GradSlice:
+		call = callee(s.Gradient).Call(jen.Id("x").Index(jen.Op(":")), jen.Id("g").Index(jen.Op(":")))
+	default:
+		call = callee(s.Gradient).Call(jen.Op("&").Id("x"), jen.Id("g"))
+	}
+	f.Commentf("%sGradientAt is the gradient with respect to the kernels' z, by the chain rule gᵢ = sᵢ·∂f/∂xᵢ.", p.Prefix)
+	f.Func().Id(p.Prefix+"GradientAt").Params(append(recv, jen.List(jen.Id("z"), jen.Id("g")).Add(ptr()))...).Block(
+		x.Clone(),
+		call,
+		scale.Clone(),
+		jen.For(jen.Id("i").Op(":=").Range().Id("g")).Block(jen.Id("g").Index(jen.Id("i")).Op("*=").Id("s").Index(jen.Id("i"))),
+	)
 }
 
 // emitEntry writes the two entry points:
@@ -230,7 +344,14 @@ func emitEntry(f *jen.File, p *Plan, kernel string) {
 		start = jen.Index(jen.Lit(1)).Id(p.Shape.Elem).Values(jen.Id("x0"))
 		x = jen.Id("out").Dot("x").Index(jen.Lit(0))
 	}
-	kernelArgs = append(kernelArgs, start, jen.Id("limits"), boxValue(p))
+	if p.Scaled() {
+		start = jen.Id(p.Prefix + "Scaled").Call(start)
+		x = jen.Id(p.Prefix + "Unscaled").Call(jen.Op("&").Id("out").Dot("x"))
+		if p.Shape.Scalar() {
+			x = x.Index(jen.Lit(0))
+		}
+	}
+	kernelArgs = append(kernelArgs, start, jen.Id("limits"), kernelBoxValue(p))
 
 	for _, line := range entryDoc(p) {
 		f.Comment(line)
@@ -274,6 +395,13 @@ func entryDoc(p *Plan) []string {
 			box = append(box, fmt.Sprintf("[%s, %s]", tomlNumber(p.M.Lower[i]), tomlNumber(p.M.Upper[i])))
 		}
 		lines = append(lines, fmt.Sprintf("Bounds %s: %s; Gradient is the measure of the projected gradient (zero in components pushing against a bound they sit on).", strings.Join(box, " × "), rules.Bounds.Summary))
+	}
+	if p.Scaled() {
+		var scale []string
+		for _, v := range p.M.Scale {
+			scale = append(scale, tomlNumber(v))
+		}
+		lines = append(lines, fmt.Sprintf("Scale %s: %s.", strings.Join(scale, ", "), rules.Scaling.Summary))
 	}
 	var constants, stop []string
 	for _, e := range []*rules.Entry{p.Rule, p.Direction, p.Derivative} {

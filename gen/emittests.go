@@ -84,6 +84,21 @@ func EmitTests(w io.Writer, p *Plan) error {
 		doc += ", then for x within expect.tolerance of expect.x (NaN fails)"
 		tol := jen.Op(formatFloat(e.Tolerance))
 		body = append(body, jen.Id("want").Op(":=").Add(literal(p, e.X)))
+		if p.Scaled() {
+			// With scale the tolerance is in the scaled unknowns:
+			// |Xᵢ − xᵢ| ≤ tolerance·sᵢ.
+			doc += ", in units of scale"
+			if p.Shape.Scalar() {
+				tol = jen.Op(formatFloat(e.Tolerance * p.M.Scale[0]))
+			} else {
+				items := make([]jen.Code, len(p.M.Scale))
+				for i, v := range p.M.Scale {
+					items[i] = jen.Op(formatFloat(e.Tolerance * v))
+				}
+				body = append(body, jen.Id("tolerance").Op(":=").Index(jen.Lit(p.Dim)).Float64().Values(items...))
+				tol = jen.Id("tolerance").Index(jen.Id("i"))
+			}
+		}
 		if p.Shape.Scalar() {
 			body = append(body, jen.If(jen.Op("!").Parens(jen.Qual("math", "Abs").Call(jen.Id("float64").Call(jen.Id("r").Dot("X").Op("-").Id("want"))).Op("<=").Add(tol))).Block(
 				jen.Id("t").Dot("Errorf").Call(jen.Lit("x = %v, want %v within %g"), jen.Id("r").Dot("X"), jen.Id("want"), tol.Clone()),
@@ -91,7 +106,7 @@ func EmitTests(w io.Writer, p *Plan) error {
 		} else {
 			body = append(body, jen.For(jen.Id("i").Op(":=").Range().Id("want")).Block(
 				jen.If(jen.Op("!").Parens(jen.Qual("math", "Abs").Call(jen.Id("float64").Call(jen.Id("r").Dot("X").Index(jen.Id("i")).Op("-").Id("want").Index(jen.Id("i")))).Op("<=").Add(tol))).Block(
-					jen.Id("t").Dot("Errorf").Call(jen.Lit("x = %v, want %v within %g"), jen.Id("r").Dot("X"), jen.Id("want"), tol.Clone()),
+					jen.Id("t").Dot("Errorf").Call(jen.Lit("x[%d] = %v, want %v within %g"), jen.Id("i"), jen.Id("r").Dot("X").Index(jen.Id("i")), jen.Id("want").Index(jen.Id("i")), tol.Clone()),
 				),
 			))
 		}

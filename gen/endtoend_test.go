@@ -344,6 +344,16 @@ func e2eCheckCoverage(t *testing.T, plans []*Plan) {
 			have["bounds rule "+p.Rule.Name] = true
 			have["bounds "+s.Elem+" "+argNames[s.Arg]] = true
 		}
+		if p.Scaled() {
+			have["scale "+p.Direction.Name+" "+p.Derivative.Name] = true
+			have["scale "+s.Elem+" "+argNames[s.Arg]] = true
+			if p.Bounded {
+				have["scale bounds"] = true
+			}
+			if s.Receiver != "" {
+				have["scale method"] = true
+			}
+		}
 		for q := range m.Given {
 			have["set "+q.Path()] = true
 		}
@@ -406,6 +416,14 @@ func e2eCheckCoverage(t *testing.T, plans []*Plan) {
 		want = append(want, "bounds rule "+e.Name)
 	}
 	want = append(want, "bounds float32 scalar", "bounds float64 scalar", "bounds float32 array", "bounds float64 array", "bounds float64 pointer")
+	// scale with every direction and derivative source, every argument
+	// form, bounds and a method.
+	for _, d := range rules.Direction.Entries {
+		for _, src := range rules.Derivative.Entries {
+			want = append(want, "scale "+d.Name+" "+src.Name)
+		}
+	}
+	want = append(want, "scale float64 scalar", "scale float32 scalar", "scale float64 array", "scale float32 pointer", "scale float64 pointer", "scale float64 slice", "scale bounds", "scale method")
 	var missing []string
 	for _, w := range want {
 		if !have[w] {
@@ -423,22 +441,25 @@ func e2eCheckCoverage(t *testing.T, plans []*Plan) {
 // the minimizer found it; methods read their receiver's shift A, so a test
 // run on the wrong receiver misses the expected point.
 
-var e2eSpecs = []string{"plain/plain.toml", "grad/grad.toml", "methods/methods.toml", "boxed/boxed.toml"}
+var e2eSpecs = []string{"plain/plain.toml", "grad/grad.toml", "methods/methods.toml", "boxed/boxed.toml", "scaled/scaled.toml"}
 
 // e2ePackages are the module's packages whose tests must pass.
-var e2ePackages = []string{"e2e/plain", "e2e/grad", "e2e/methods/recv", "e2e/boxed"}
+var e2ePackages = []string{"e2e/plain", "e2e/grad", "e2e/methods/recv", "e2e/boxed", "e2e/scaled"}
 
 func e2eModule() map[string]string {
 	files := map[string]string{
-		"go.mod":               "module e2e\n\ngo 1.24\n",
-		"plain/plain.go":       e2ePlainGo,
-		"plain/plain.toml":     e2ePlainSpec,
-		"grad/grad.go":         e2eGradGo,
-		"grad/grad.toml":       e2eGradSpec,
-		"methods/methods.toml": e2eMethodsSpec,
-		"boxed/boxed.go":       e2eBoxedGo,
-		"boxed/boxed.toml":     e2eBoxedSpec,
-		"boxed/boxed_test.go":  e2eBoxedTest,
+		"go.mod":                "module e2e\n\ngo 1.24\n",
+		"plain/plain.go":        e2ePlainGo,
+		"plain/plain.toml":      e2ePlainSpec,
+		"grad/grad.go":          e2eGradGo,
+		"grad/grad.toml":        e2eGradSpec,
+		"methods/methods.toml":  e2eMethodsSpec,
+		"boxed/boxed.go":        e2eBoxedGo,
+		"boxed/boxed.toml":      e2eBoxedSpec,
+		"boxed/boxed_test.go":   e2eBoxedTest,
+		"scaled/scaled.go":      e2eScaledGo,
+		"scaled/scaled.toml":    e2eScaledSpec,
+		"scaled/scaled_test.go": e2eScaledTest,
 	}
 	var recv strings.Builder
 	recv.WriteString(e2eRecvHead)

@@ -288,12 +288,17 @@ func (lp *loadedPackage) resolve(spec *Spec, m *Minimizer, probs *Problems) (Sha
 	if m.bounds != nil && len(*probs) == before {
 		resolveBounds(m, shape, at, probs)
 	}
+	if m.scale != nil && len(*probs) == before {
+		resolveScale(m, shape, at, probs)
+	}
 	return shape, len(*probs) == before
 }
 
-// tomlNumber writes v as a spec would: 1.5, inf, -inf.
+// tomlNumber writes v as a spec would: 1.5, inf, -inf, nan.
 func tomlNumber(v float64) string {
 	switch {
+	case math.IsNaN(v):
+		return "nan"
 	case math.IsInf(v, 1):
 		return "inf"
 	case math.IsInf(v, -1):
@@ -372,6 +377,40 @@ func resolveBounds(m *Minimizer, shape Shape, at func(string) Pos, probs *Proble
 		}
 	}
 	m.Lower, m.Upper = lower, upper
+}
+
+// resolveScale checks scale against the objective's shape: a number for
+// scalar objectives, else a list of dim numbers, each positive and finite
+// (a typical magnitude, by which the minimizer divides its unknown).
+func resolveScale(m *Minimizer, shape Shape, at func(string) Pos, probs *Problems) {
+	x, scalar, ok := numbers(m.scale)
+	switch {
+	case !ok:
+		probs.add(at("scale"), "scale must be a number or an array of numbers")
+		return
+	case shape.Scalar() && !scalar:
+		probs.add(at("scale"), "scale must be a single number: %s takes a scalar", m.Objective)
+		return
+	case !shape.Scalar() && scalar:
+		probs.add(at("scale"), "scale must be an array of %d numbers, one typical magnitude per unknown", shape.Dim)
+		return
+	case len(x) != shape.Dim:
+		probs.add(at("scale"), "scale has %d values, the objective has %d unknowns", len(x), shape.Dim)
+		return
+	}
+	for i, v := range x {
+		where := at("scale")
+		if !scalar {
+			where = at(fmt.Sprintf("scale.%d", i))
+		}
+		// Within float32's normal range either way, so that 1/scale and
+		// x/scale stay finite for every float type.
+		if !(v >= 1e-30 && v <= 1e30) {
+			probs.add(where, "scale must be a positive, finite typical magnitude within [1e-30, 1e30] (unknown %d has %s)", i, tomlNumber(v))
+			return
+		}
+	}
+	m.Scale = x
 }
 
 // lookupFunc finds "Func" or "Type.Method" in the package. When onType is

@@ -137,8 +137,16 @@ func (p *Plan) kernelChoice() kernelChoice {
 	for _, c := range rules.Constants {
 		provided[c.Name] = p.Prefix + upperFirst(c.Name)
 	}
-	return kernelChoice{shape: p.Shape, pick: pick, provided: provided, prefix: p.Prefix}
+	choice := kernelChoice{shape: p.Shape, pick: pick, provided: provided, prefix: p.Prefix}
+	if p.Scaled() {
+		choice.valueAt, choice.gradientAt = p.Prefix+"ValueAt", p.Prefix+"GradientAt"
+	}
+	return choice
 }
+
+// Scaled reports whether the spec sets scale: the kernels then work in
+// zᵢ = xᵢ/sᵢ and reach the user's functions through the glue's adapters.
+func (p *Plan) Scaled() bool { return p.M.Scale != nil }
 
 // formatFloat renders v as a Go float literal that reads back exactly.
 func formatFloat(v float64) string { return rules.FormatFloat(v) }

@@ -76,8 +76,13 @@ func ratio(measure, limit float64) float64 {
 func WriteTraceTable(w io.Writer, p *Plan, res *TraceResult) error {
 	fmt.Fprintf(w, "%s: %s direction, %s step rule, %s gradient, from %s\n", p.M.Name, p.Direction.Name, p.Rule.Name, p.Derivative.Name, formatNumbers(p.M.Start))
 	l := res.Limits
-	fmt.Fprintf(w, "stops when the largest |∂f/∂xᵢ| ≤ %s or every |Δxᵢ| ≤ %s·(|xᵢ| + 1), after at most %d moves and %d objective calls\n\n",
-		compactFloat(l.Gradient, 3), compactFloat(l.Step, 3), l.Iterations, l.Evaluations)
+	if res.Scale != nil {
+		fmt.Fprintf(w, "in the scaled unknowns zᵢ = xᵢ/sᵢ, s = %s: stops when the largest |sᵢ·∂f/∂xᵢ| ≤ %s or every |Δzᵢ| ≤ %s·(|zᵢ| + 1), after at most %d moves and %d objective calls\n\n",
+			formatNumbers(res.Scale), compactFloat(l.Gradient, 3), compactFloat(l.Step, 3), l.Iterations, l.Evaluations)
+	} else {
+		fmt.Fprintf(w, "stops when the largest |∂f/∂xᵢ| ≤ %s or every |Δxᵢ| ≤ %s·(|xᵢ| + 1), after at most %d moves and %d objective calls\n\n",
+			compactFloat(l.Gradient, 3), compactFloat(l.Step, 3), l.Iterations, l.Evaluations)
+	}
 	differences := p.Derivative != rules.Analytic
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', tabwriter.AlignRight)
 	var header []string

@@ -50,6 +50,14 @@ func WriteRules(w io.Writer) {
 		fmt.Fprintf(w, "      ref: %s\n", r)
 	}
 	fmt.Fprintln(w)
+	sc := rules.Scaling
+	fmt.Fprintf(w, "%s: [[minimizer]] %s, optional (a number for scalar objectives, else one per unknown, each > 0)\n\n", sc.Table, sc.Table)
+	fmt.Fprintf(w, "  %s\n", sc.Summary)
+	fmt.Fprintf(w, "      %s\n", sc.Math)
+	for _, r := range sc.References {
+		fmt.Fprintf(w, "      ref: %s\n", r)
+	}
+	fmt.Fprintln(w)
 	fmt.Fprintln(w, "stop: limits every minimizer reads ([minimizer.stop])")
 	fmt.Fprintln(w)
 	for _, p := range rules.Params() {

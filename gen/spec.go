@@ -49,8 +49,12 @@ type Minimizer struct {
 	// Lower and Upper are the box of [minimizer.bounds], ±Inf for open
 	// sides, set once the objective's shape is known; nil without bounds.
 	Lower, Upper []float64
+	// Scale is the typical magnitude of each unknown (scale), set once the
+	// objective's shape is known; nil when the spec leaves it out.
+	Scale []float64
 
 	start     any
+	scale     any
 	expectX   any
 	bounds    map[string]any // [minimizer.bounds] as decoded, nil without it
 	keyPrefix string         // "minimizer.N"
@@ -72,7 +76,7 @@ type Expect struct {
 // structuralKeys are the keys of a [[minimizer]] table that the registry
 // does not describe: they name things in the user's package and shape the
 // generated code, and spec.go validates each itself.
-var structuralKeys = []string{"name", "objective", "gradient", "start", "dim", "instance", "output"}
+var structuralKeys = []string{"name", "objective", "gradient", "start", "scale", "dim", "instance", "output"}
 
 // subtables are the tables a [[minimizer]] may hold, with their fixed
 // keys; the registry adds the choices and parameters of "step" and "stop".
@@ -275,7 +279,7 @@ func (r *specReader) subtable(table map[string]any, path, key string) (map[strin
 func (r *specReader) minimizer(table map[string]any, i int) *Minimizer {
 	key := fmt.Sprintf("minimizer.%d", i)
 	at := func(k string) Pos { return r.ix.value(key + "." + k) }
-	m := &Minimizer{Index: i, keyPrefix: key, start: table["start"], Given: map[*rules.Param]float64{}}
+	m := &Minimizer{Index: i, keyPrefix: key, start: table["start"], scale: table["scale"], Given: map[*rules.Param]float64{}}
 
 	// The keys each table may hold: structural ones, then the registry's.
 	tables := map[string]map[string]any{"": table}

@@ -194,6 +194,10 @@ type kernelChoice struct {
 	trace      bool
 	traceHook  string
 	traceTrial string
+	// valueAt and gradientAt, when set, are the glue's adapters that the
+	// objective and gradient calls go through instead of the user's
+	// functions (scale: the kernels' point is zᵢ = xᵢ/sᵢ).
+	valueAt, gradientAt string
 }
 
 // specializedKernels holds the rewritten declarations and what they need.
@@ -516,6 +520,9 @@ func (rw *rewriter) callee(name string) ast.Expr {
 // f(p[0]), f(*p), f(p) or f(p[:]).
 func (rw *rewriter) objectiveCall(call *ast.CallExpr) ast.Expr {
 	p := call.Args[0]
+	if rw.c.valueAt != "" {
+		return &ast.CallExpr{Fun: ast.NewIdent(rw.c.valueAt), Args: rw.adapterArgs(p), Lparen: call.Lparen, Rparen: call.Rparen}
+	}
 	var arg ast.Expr
 	switch rw.c.shape.Arg {
 	case ArgScalar:
@@ -534,6 +541,9 @@ func (rw *rewriter) objectiveCall(call *ast.CallExpr) ast.Expr {
 // form: g[0] = grad(p[0]); grad(p, g); *g = grad(*p); grad(p[:], g[:]).
 func (rw *rewriter) gradientCall(call *ast.CallExpr) ast.Stmt {
 	p, g := call.Args[0], call.Args[1]
+	if rw.c.gradientAt != "" {
+		return &ast.ExprStmt{X: &ast.CallExpr{Fun: ast.NewIdent(rw.c.gradientAt), Args: rw.adapterArgs(p, g), Lparen: call.Lparen, Rparen: call.Rparen}}
+	}
 	fun := rw.callee(rw.c.shape.Gradient)
 	mk := func(args ...ast.Expr) *ast.CallExpr {
 		return &ast.CallExpr{Fun: fun, Args: args, Lparen: call.Lparen, Rparen: call.Rparen}
@@ -548,6 +558,15 @@ func (rw *rewriter) gradientCall(call *ast.CallExpr) ast.Stmt {
 	default:
 		return &ast.ExprStmt{X: mk(p, g)}
 	}
+}
+
+// adapterArgs are the arguments of a call of the glue's adapters: the
+// receiver first when the objective is a method.
+func (rw *rewriter) adapterArgs(args ...ast.Expr) []ast.Expr {
+	if rw.c.shape.Receiver == "" {
+		return args
+	}
+	return append([]ast.Expr{ast.NewIdent("recv")}, args...)
 }
 
 // deref returns *p, or x when p is &x.

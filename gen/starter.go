@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"go/types"
 	"io"
+	"math"
 	"path/filepath"
 	"strings"
 
@@ -14,8 +15,10 @@ import (
 // "Type.Method") of the Go package in dir: every key present, with its
 // default and a one-line comment, ready for `thalweg gen`. A gradient named
 // like the objective plus "Grad" or "Gradient" that fits is proposed as
-// the analytic one, and a New<Type> function as the instance.
-func WriteStarter(w io.Writer, dir, ref string) error {
+// the analytic one, and a New<Type> function as the instance. A start,
+// when given, is written as the spec's start, and scale is proposed from
+// it: |startᵢ| where that is nonzero, else 1.
+func WriteStarter(w io.Writer, dir, ref string, start []float64) error {
 	var probs Problems
 	at := Pos{File: displayPath(dir), Line: 1, Col: 1}
 	if !validReference(ref) {
@@ -43,6 +46,17 @@ func WriteStarter(w io.Writer, dir, ref string) error {
 	dim := shape.Dim
 	if shape.Arg == ArgSlice {
 		dim = 2
+		if start != nil {
+			dim = len(start)
+		}
+	}
+	if start != nil {
+		switch {
+		case len(start) != dim:
+			return Problems{{at, fmt.Sprintf("--start has %d values, objective %s has %d unknowns", len(start), ref, dim)}}
+		case !finiteAll(start):
+			return Problems{{at, "--start must be finite: a typical starting point"}}
+		}
 	}
 	// The default direction, or the first that fits on the stack.
 	var direction *rules.Entry
@@ -146,12 +160,45 @@ func WriteStarter(w io.Writer, dir, ref string) error {
 	}
 	choiceLine(rules.Direction, direction, note)
 	params("")
-	// nan, which gen refuses: a start of zeros is often a stationary
-	// point (a calibration's zero gain), which would converge at once.
-	if shape.Scalar() {
-		kv("start", "nan", "REQUIRED: replace nan with a typical starting point")
+	// Without --start, nan, which gen refuses: a start of zeros is often a
+	// stationary point (a calibration's zero gain), which would converge at
+	// once.
+	list := func(vals []float64) string {
+		if shape.Scalar() {
+			return tomlNumber(vals[0])
+		}
+		items := make([]string, len(vals))
+		for i, v := range vals {
+			items[i] = tomlNumber(v)
+		}
+		return "[" + strings.Join(items, ", ") + "]"
+	}
+	ones := make([]float64, dim)
+	for i := range ones {
+		ones[i] = 1
+	}
+	if start == nil {
+		nans := make([]float64, dim)
+		for i := range nans {
+			nans[i] = math.NaN()
+		}
+		kv("start", list(nans), "REQUIRED: replace nan with a typical starting point")
+		kv("# scale", list(ones), "typical magnitude of each unknown, when they differ by orders (init --start proposes |start|)")
 	} else {
-		kv("start", "["+strings.TrimSuffix(strings.Repeat("nan, ", dim), ", ")+"]", "REQUIRED: replace nan with a typical starting point")
+		kv("start", list(start), "a typical starting point, from init --start")
+		scale, unit := make([]float64, dim), true
+		for i, v := range start {
+			scale[i] = 1
+			if v != 0 {
+				scale[i] = math.Abs(v)
+			}
+			unit = unit && scale[i] == 1
+		}
+		if unit {
+			kv("# scale", list(ones), "typical magnitude of each unknown, when they differ by orders")
+		} else {
+			kv("scale", list(scale), "typical magnitude of each unknown, from |start| where nonzero; the minimizer works in x/scale")
+		}
 	}
 	if shape.Arg == ArgSlice {
 		kv("dim", fmt.Sprint(dim), "the objective takes a slice: the number of unknowns")
@@ -206,4 +253,13 @@ func readersOf(p *rules.Param) string {
 // StarterPath is the default file name of `thalweg init` for an objective.
 func StarterPath(ref string) string {
 	return filepath.Join(".", snakeCase(strings.ReplaceAll(ref, ".", ""))+".toml")
+}
+
+func finiteAll(vals []float64) bool {
+	for _, v := range vals {
+		if math.IsNaN(v) || math.IsInf(v, 0) {
+			return false
+		}
+	}
+	return true
 }

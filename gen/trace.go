@@ -76,6 +76,9 @@ type TraceResult struct {
 	LastTrials int
 	Trials     []TracePoint // two unknowns only
 	Grid       *TraceGrid   // two unknowns only
+	// Scale is the spec's scale, nil without one: the step test then
+	// measures the scaled unknowns xᵢ/sᵢ.
+	Scale []float64
 }
 
 // Names of the hooks in the instrumented copy and of the harness's helpers.
@@ -107,7 +110,15 @@ func Trace(p *Plan) (*TraceResult, error) {
 	if err != nil {
 		return nil, err
 	}
-	return parseTrace(out)
+	res, err := parseTrace(out)
+	if err != nil {
+		return nil, err
+	}
+	if p.Scaled() {
+		res.Scale = p.M.Scale
+		res.derive()
+	}
+	return res, nil
 }
 
 // emitTraceHarness writes the recorders and the test that runs the
@@ -141,12 +152,20 @@ func emitTraceHarness(w io.Writer, p *Plan) error {
 
 	// func thalwegTraceTrial(x *[N]T, fx T) T: counts (and for two
 	// unknowns prints) a trial, and hands its value back.
+	// With scale, the kernels hand over their z; rows show the user's x.
+	point, unscale := "x", []jen.Code(nil)
+	if p.Scaled() {
+		point, unscale = "z", []jen.Code{jen.Id("x").Op(":=").Id(p.Prefix + "Unscaled").Call(jen.Id("z"))}
+	}
 	trialBody := []jen.Code{jen.Id("thalwegTraceTrials").Op("++")}
+	if plane {
+		trialBody = append(trialBody, unscale...)
+	}
 	if plane {
 		trialBody = append(trialBody, jen.Qual("fmt", "Printf").Call(jen.Lit("thalweg-trial\t%v\t%v\t%v\n"), float(jen.Id("fx")), float(jen.Id("x").Index(jen.Lit(0))), float(jen.Id("x").Index(jen.Lit(1)))))
 	}
 	trialBody = append(trialBody, jen.Return(jen.Id("fx")))
-	f.Func().Id(traceTrial).Params(jen.Id("x").Add(vec.Clone()), jen.Id("fx").Id(s.Elem)).Id(s.Elem).Block(trialBody...)
+	f.Func().Id(traceTrial).Params(jen.Id(point).Add(vec.Clone()), jen.Id("fx").Id(s.Elem)).Id(s.Elem).Block(trialBody...)
 
 	// func thalwegTraceObserve(iteration, evaluations int, x *[N]T, fx T, g *[N]T, step, slope T)
 	xLoop := []jen.Code{appendFloat("row", float(jen.Id("v")))}
@@ -170,9 +189,9 @@ func emitTraceHarness(w io.Writer, p *Plan) error {
 	}
 	f.Func().Id(traceHook).Params(
 		jen.List(jen.Id("iteration"), jen.Id("evaluations")).Int(),
-		jen.Id("x").Add(vec.Clone()), jen.Id("fx").Id(s.Elem), jen.Id("g").Add(vec.Clone()),
+		jen.Id(point).Add(vec.Clone()), jen.Id("fx").Id(s.Elem), jen.Id("g").Add(vec.Clone()),
 		jen.List(jen.Id("step"), jen.Id("slope")).Id(s.Elem),
-	).Block(
+	).Block(append(unscale,
 		jen.Id("largest").Op(":=").Lit(0.0),
 		jen.For(jen.List(gradientIndex, jen.Id("v")).Op(":=").Range().Id("g")).Block(append(projected,
 			jen.If(jen.Id("a").Op(":=").Qual("math", "Abs").Call(float(jen.Id("v"))), jen.Id("a").Op(">").Id("largest").Op("||").Id("a").Op("!=").Id("a")).Block(jen.Id("largest").Op("=").Id("a")),
@@ -186,7 +205,7 @@ func emitTraceHarness(w io.Writer, p *Plan) error {
 		jen.Qual("fmt", "Println").Call(jen.String().Call(jen.Id("row"))),
 		jen.Id("thalwegTraceTrials").Op("=").Lit(0),
 		jen.Id("thalwegTraceRows").Op("++"),
-	)
+	)...)
 
 	var recvParam, recvArg []jen.Code
 	if s.Receiver != "" {
@@ -366,7 +385,7 @@ func (res *TraceResult) derive() {
 		r.GradientCalls = r.Evaluations - prev.Evaluations - r.Trials
 		r.Decrease = prev.F - r.F
 		r.Predicted = -r.Step * r.Slope
-		r.StepMeasure = stepMeasure(prev.X, r.X)
+		r.StepMeasure = stepMeasure(scaled(prev.X, res.Scale), scaled(r.X, res.Scale))
 	}
 }
 
@@ -380,6 +399,18 @@ func stepMeasure(previous, x []float64) float64 {
 		}
 	}
 	return largest
+}
+
+// scaled is x divided by scale, or x without a scale.
+func scaled(x, scale []float64) []float64 {
+	if scale == nil {
+		return x
+	}
+	z := make([]float64, len(x))
+	for i := range x {
+		z[i] = x[i] / scale[i]
+	}
+	return z
 }
 
 // CallsLeft is the evaluation cap less the calls made up to row r.

@@ -174,7 +174,11 @@ func TestTracedKernels(t *testing.T) {
 			t.Errorf("%s: the generated minimizer mentions the trace hooks", p.M.Name)
 		}
 		search := p.Prefix + "LineSearch"
-		objectiveCalls := callsIn(t, plain.Bytes(), search, p.Shape.Objective)
+		objective := p.Shape.Objective
+		if p.Scaled() {
+			objective = p.Prefix + "ValueAt" // the adapter to the user's units
+		}
+		objectiveCalls := callsIn(t, plain.Bytes(), search, objective)
 		if objectiveCalls == 0 {
 			t.Fatalf("%s: no objective call in %s", p.M.Name, search)
 		}
@@ -291,4 +295,20 @@ func float32ify(elem string, v float64) float64 {
 		return float64(float32(v))
 	}
 	return v
+}
+
+// With scale the step measure is the kernel's: on zᵢ = xᵢ/sᵢ.
+func TestTraceStepMeasureScaled(t *testing.T) {
+	res := &TraceResult{Rows: []TraceRow{{X: []float64{1e-3, 1e5}}, {X: []float64{3e-3, 1.5e5}}}, Scale: []float64{1e-3, 1e5}}
+	res.derive()
+	// z moves from (1, 1) to (3, 1.5): max(2/4, 0.5/2.5) = 0.5.
+	if got := res.Rows[1].StepMeasure; got != 0.5 {
+		t.Errorf("scaled step measure %v, want 0.5", got)
+	}
+	res.Scale = nil
+	res.derive()
+	// Unscaled, x₁'s change dominates: 5e4/(1.5e5 + 1).
+	if got, want := res.Rows[1].StepMeasure, 5e4/(1.5e5+1); got != want {
+		t.Errorf("unscaled step measure %v, want %v", got, want)
+	}
 }

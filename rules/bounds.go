@@ -34,3 +34,14 @@ const (
 	Kelley1999    = "C. T. Kelley, Iterative Methods for Optimization, SIAM, 1999"
 	Bertsekas1982 = "D. P. Bertsekas, Projected Newton methods for optimization problems with simple constraints, SIAM J. Control Optim. 20(2):221–246, 1982"
 )
+
+// Scaling is the scale key: the typical magnitude sᵢ of each unknown. It
+// picks no alternatives; the glue converts between the user's x and the
+// kernels' z and adapts the objective and gradient calls.
+var Scaling = &Feature{
+	Table:   "scale",
+	Summary: "the kernels work in zᵢ = xᵢ/sᵢ, s the typical magnitude of each unknown, and report X in the user's units; Gradient and the gradient limit apply to the scaled gradient sᵢ·∂f/∂xᵢ, the step limit to the scaled step, and difference steps are taken in z",
+	Math: "z = x/s, f_z(z) = f(s∘z), ∇f_z = s∘∇f(x) (chain rule); a diagonal change of variables that makes every unknown of order one, " +
+		"so that one step length, one gradient limit and one difference step suit them all",
+	References: []string{DennisSchnabel + ", §7.1 (scaling)", NocedalWright + ", §2.2 (scaling)"},
+}

@@ -183,7 +183,7 @@ func runInit(c *command, args []string, o *options, stdout, stderr io.Writer) in
 		return 2
 	}
 	var spec bytes.Buffer
-	if err := gen.WriteStarter(&spec, filepath.Dir(path), ref); err != nil {
+	if err := gen.WriteStarter(&spec, filepath.Dir(path), ref, o.start); err != nil {
 		return report(stderr, err)
 	}
 	// O_EXCL: never overwrite, even a file created since the check above.

@@ -611,6 +611,24 @@ func (r Rig) Cost(x float64) float64 { return (x - r.Offset) * (x - r.Offset) }
 	if code, _, stderr := thalweg("init", "Huge"); code != 2 || !strings.Contains(stderr, "big.go:5:6: objective Huge has 20000 unknowns") {
 		t.Errorf("init for 20000 unknowns exited %d:\n%s", code, stderr)
 	}
+	// --start writes the start and proposes scale from it: |startᵢ|, 1
+	// where startᵢ is 0; gen takes the spec as written.
+	writeFile(t, "coil.go", "package quickstart\n\nfunc Coil(x [3]float64) float64 {\n\ta, b := (x[0]-2e-3)/1e-3, (x[1]-3e5)/1e5\n\treturn a*a + b*b + x[2]*x[2]\n}\n")
+	if code, _, stderr := thalweg("init", "Coil", "--start", "1e-3,-2e5,0"); code != 0 {
+		t.Fatalf("init --start exited %d:\n%s", code, stderr)
+	}
+	coil, _ := os.ReadFile("coil.toml")
+	for _, want := range []string{"start = [0.001, -200000, 0]", "scale = [0.001, 200000, 1]"} {
+		if !strings.Contains(string(coil), want) {
+			t.Errorf("init --start does not write %q:\n%s", want, coil)
+		}
+	}
+	if code, _, stderr := thalweg("gen", "coil.toml"); code != 0 {
+		t.Errorf("gen on the starter spec from init --start exited %d:\n%s", code, stderr)
+	}
+	if code, _, stderr := thalweg("init", "Coil", "--start", "1,2", "--out", "coil2.toml"); code != 2 || !strings.Contains(stderr, "--start has 2 values, objective Coil has 3 unknowns") {
+		t.Errorf("init with a start of the wrong length exited %d:\n%s", code, stderr)
+	}
 	if code, _, stderr := thalweg("init", "NoSuchFunc"); code != 2 || !strings.Contains(stderr, "objective NoSuchFunc: no such function") {
 		t.Errorf("init of a missing objective exited %d:\n%s", code, stderr)
 	}

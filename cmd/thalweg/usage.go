@@ -27,6 +27,7 @@ type options struct {
 	out           string
 	name          string
 	csv, svg      string
+	start         []float64
 }
 
 // commands lists the verbs in the order the overview shows them; init
@@ -68,16 +69,19 @@ SPEC, no longer produced)". Exit status: 0 when nothing is to be done,
 		run: runGenCheck,
 	}, {
 		name:     "init",
-		synopsis: "OBJECTIVE [--out FILE]",
+		synopsis: "OBJECTIVE [--out FILE] [--start VALUES]",
 		summary:  "write a starter spec for an objective",
 		args:     [][2]string{{"OBJECTIVE", `"Func" or "Type.Method" of the Go package in FILE's directory`}},
 		flags: func(f *pflag.FlagSet, o *options) {
 			f.StringVar(&o.out, "out", "", "the spec `FILE` to write (default ./<objective_in_snake_case>.toml)")
+			f.Float64SliceVar(&o.start, "start", nil, "a typical starting point, comma-separated `VALUES` (one per unknown); scale is proposed from it")
 		},
 		notes: `The starter spec has every key with its default and a one-line comment;
 a gradient named <Objective>Grad or <Objective>Gradient that fits is
-proposed as the analytic one, and New<Type> as the instance. init never
-overwrites a file.`,
+proposed as the analytic one, and New<Type> as the instance. Without
+--start, start is written as nan, which gen refuses until you replace it;
+with --start, scale is proposed as |start| where that is nonzero (1
+elsewhere). init never overwrites a file.`,
 		run: runInit,
 	}, {
 		name:     "tune",

@@ -21,7 +21,7 @@ func TestCalibrateConverges(t *testing.T) {
 	want := [2]float64{2.0, -1.0}
 	for i := range want {
 		if !(math.Abs(float64(r.X[i]-want[i])) <= 1e-08) {
-			t.Errorf("x = %v, want %v within %g", r.X, want, 1e-08)
+			t.Errorf("x[%d] = %v, want %v within %g", i, r.X[i], want[i], 1e-08)
 		}
 	}
 }

@@ -27,7 +27,7 @@ func TestMinValleyConverges(t *testing.T) {
 	want := [2]float64{1.0, -2.0}
 	for i := range want {
 		if !(math.Abs(float64(r.X[i]-want[i])) <= 1e-06) {
-			t.Errorf("x = %v, want %v within %g", r.X, want, 1e-06)
+			t.Errorf("x[%d] = %v, want %v within %g", i, r.X[i], want[i], 1e-06)
 		}
 	}
 }
