@@ -173,3 +173,27 @@ func identsIn(n ast.Node) []*ast.Ident {
 	})
 	return ids
 }
+
+// With bounds, tune tries only directions that take them, and still every
+// rule it tries without bounds.
+func TestTunePoliciesWithBounds(t *testing.T) {
+	open, bounded := TunePolicies(false), TunePolicies(true)
+	rulesTried := map[*rules.Entry]bool{}
+	for _, pol := range bounded {
+		if pol.Direction.NoBounds != "" {
+			t.Errorf("tune tries %s with bounds, which it cannot take", pol)
+		}
+		rulesTried[pol.Rule] = true
+	}
+	refused := 0
+	for _, pol := range open {
+		if pol.Direction.NoBounds != "" {
+			refused++
+		} else if !rulesTried[pol.Rule] {
+			t.Errorf("tune with bounds leaves out rule %s", pol.Rule.Name)
+		}
+	}
+	if refused == 0 || len(bounded) != len(open)-refused {
+		t.Errorf("%d policies with bounds, %d without, %d of which cannot take bounds", len(bounded), len(open), refused)
+	}
+}

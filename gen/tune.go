@@ -22,10 +22,14 @@ import (
 // enforces one; Nocedal & Wright 2006, §5.2), each switch the rule reads
 // both ways. Fixed steps need a hand-picked step and simple decrease
 // guarantees nothing (§3.1), so the registry leaves them out; they are
-// tried only when the spec itself uses them.
-func TunePolicies() []Policy {
+// tried only when the spec itself uses them. With bounds, directions
+// that cannot take them are left out.
+func TunePolicies(bounded bool) []Policy {
 	var out []Policy
 	for _, d := range rules.Direction.Entries {
+		if bounded && d.NoBounds != "" {
+			continue
+		}
 		for _, r := range rules.StepRule.Entries {
 			if !r.Tune || d.NeedsCurvature && !r.Curvature {
 				continue
@@ -81,7 +85,7 @@ func Tune(p *Plan) ([]TuneRow, error) {
 		}
 	}
 	policies := []Policy{own}
-	for _, pol := range TunePolicies() {
+	for _, pol := range TunePolicies(p.Bounded) {
 		if pol != own {
 			policies = append(policies, pol)
 		}

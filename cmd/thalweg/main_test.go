@@ -769,7 +769,7 @@ func TestTune(t *testing.T) {
 		}
 	}
 	// Every sensible policy once; the spec's bfgs + armijo is one of them.
-	if want := len(gen.TunePolicies()); want < 11 || len(rows) != want {
+	if want := len(gen.TunePolicies(false)); want < 11 || len(rows) != want {
 		t.Fatalf("tune printed %d policy rows, want %d (at least 11):\n%s", len(rows), want, stdout)
 	}
 	if !strings.Contains(rows[0], "← recommended") || !strings.Contains(rows[0], "gradient small") {
