@@ -324,7 +324,39 @@ func emitGradientCheck(f *jen.File, p *Plan, helper string, setup func() []jen.C
 		}
 		boxDoc = " With bounds every point is projected into the box and the objective is never evaluated outside it: where the box leaves no room for ±h the three-point endpoint formula on the side with room takes over (Burden & Faires, Numerical Analysis, §4.1), and a component whose box is narrower than 2h is not checked."
 	}
-	f.Commentf("Test%sGradientMatchesDifferences compares %s with central differences, h = ∛u·max(1, |xᵢ|), at the start, two nearby points, three points along the first search direction −∇f (at 1%%, 10%% and 50%% of max(1, ‖x0‖∞)) and where the run from start ends, so that a gradient wrong only near the minimizer is caught too. It allows the truncation error as %s relative to max(1, |gᵢ|) (common practice) plus 100 times the rounding bound u·|f|/h (Nocedal & Wright 2006, §8.1). NaN or ±Inf fails at the start and its neighbours; points farther out where f is not finite lie outside the objective's domain and are skipped.%s", name, s.Gradient, tol, boxDoc)
+	// With scale, every length is in units of sᵢ: h = ∛u·max(sᵢ, |xᵢ|),
+	// the nearby points and the steps along −∇f are taken in z = x/s, and
+	// the comparison is of the scaled components sᵢ·∂f/∂xᵢ.
+	times := func(c *jen.Statement) *jen.Statement { return c }
+	scaleDoc := ""
+	if p.Scaled() {
+		items := make([]jen.Code, len(p.M.Scale))
+		for i, v := range p.M.Scale {
+			items[i] = jen.Op(formatFloat(v))
+		}
+		boxed = append(boxed, jen.Id("sc").Op(":=").Index(jen.Lit(p.Dim)).Float64().Values(items...))
+		times = func(c *jen.Statement) *jen.Statement { return c.Op("*").Id("sc").Index(jen.Id("i")) }
+		scaleDoc = " With scale, lengths are in units of sᵢ (h = ∛u·max(sᵢ, |xᵢ|), the nearby points and the steps along −∇f in z = x/s) and the scaled components sᵢ·∂f/∂xᵢ are compared."
+	}
+	over := func(c *jen.Statement) *jen.Statement {
+		if !p.Scaled() {
+			return c
+		}
+		return c.Op("/").Id("sc").Index(jen.Id("i"))
+	}
+	unit := func() *jen.Statement {
+		if !p.Scaled() {
+			return jen.Lit(1.0)
+		}
+		return jen.Id("sc").Index(jen.Id("i"))
+	}
+	nearby := func() jen.Code {
+		if !p.Scaled() {
+			return jen.Id("x").Index(jen.Id("i")).Op("+=").Id(s.Elem).Call(jen.Id("k")).Op("*").Lit(0.01).Op("*").Id(s.Elem).Call(jen.Id("i").Op("+").Lit(1))
+		}
+		return jen.Id("x").Index(jen.Id("i")).Op("+=").Id(s.Elem).Call(jen.Float64().Call(jen.Id("k")).Op("*").Lit(0.01).Op("*").Float64().Call(jen.Id("i").Op("+").Lit(1)).Op("*").Id("sc").Index(jen.Id("i")))
+	}
+	f.Commentf("Test%sGradientMatchesDifferences compares %s with central differences, h = ∛u·max(1, |xᵢ|), at the start, two nearby points, three points along the first search direction −∇f (at 1%%, 10%% and 50%% of max(1, ‖x0‖∞)) and where the run from start ends, so that a gradient wrong only near the minimizer is caught too. It allows the truncation error as %s relative to max(1, |gᵢ|) (common practice) plus 100 times the rounding bound u·|f|/h (Nocedal & Wright 2006, §8.1). NaN or ±Inf fails at the start and its neighbours; points farther out where f is not finite lie outside the objective's domain and are skipped.%s%s", name, s.Gradient, tol, boxDoc, scaleDoc)
 	f.Func().Id("Test" + name + "GradientMatchesDifferences").Params(jen.Id("t").Op("*").Qual("testing", "T")).Block(append(append(setup(), boxed...),
 		jen.Id("value").Op(":=").Func().Params(append(recvParam, jen.Id("x").Add(vec.Clone()))...).Id(s.Elem).Block(jen.Return(recvPrefix(s.Objective).Call(valueArg...))),
 		jen.Id("gradient").Op(":=").Func().Params(append(recvParam, jen.Id("x").Add(vec.Clone()))...).Params(jen.Id("g").Add(vec.Clone())).Block(append(gradBody, jen.Return())...),
@@ -334,20 +366,20 @@ func emitGradientCheck(f *jen.File, p *Plan, helper string, setup func() []jen.C
 		jen.For(jen.Id("k").Op(":=").Lit(1), jen.Id("k").Op("<").Lit(3), jen.Id("k").Op("++")).Block(
 			jen.Id("x").Op(":=").Id("start"),
 			jen.For(jen.Id("i").Op(":=").Range().Id("x")).Block(
-				jen.Id("x").Index(jen.Id("i")).Op("+=").Id(s.Elem).Call(jen.Id("k")).Op("*").Lit(0.01).Op("*").Id(s.Elem).Call(jen.Id("i").Op("+").Lit(1)),
+				nearby(),
 			),
 			jen.Id("points").Op("=").Append(jen.Id("points"), inside(jen.Id("x"))),
 		),
 		jen.List(jen.Id("g0"), jen.Id("steepest"), jen.Id("size")).Op(":=").List(jen.Id("gradient").Call(append(recvArg, jen.Id("start"))...), jen.Lit(0.0), jen.Lit(1.0)),
 		jen.For(jen.Id("i").Op(":=").Range().Id("start")).Block(
-			jen.Id("steepest").Op("=").Qual("math", "Max").Call(jen.Id("steepest"), jen.Qual("math", "Abs").Call(jen.Float64().Call(jen.Id("g0").Index(jen.Id("i"))))),
-			jen.Id("size").Op("=").Qual("math", "Max").Call(jen.Id("size"), jen.Qual("math", "Abs").Call(jen.Float64().Call(jen.Id("start").Index(jen.Id("i"))))),
+			jen.Id("steepest").Op("=").Qual("math", "Max").Call(jen.Id("steepest"), jen.Qual("math", "Abs").Call(times(jen.Float64().Call(jen.Id("g0").Index(jen.Id("i")))))),
+			jen.Id("size").Op("=").Qual("math", "Max").Call(jen.Id("size"), jen.Qual("math", "Abs").Call(over(jen.Float64().Call(jen.Id("start").Index(jen.Id("i")))))),
 		),
 		jen.If(jen.Id("steepest").Op(">").Lit(0).Op("&&").Op("!").Qual("math", "IsInf").Call(jen.Id("steepest"), jen.Lit(0))).Block(
 			jen.For(jen.List(jen.Id("_"), jen.Id("part")).Op(":=").Range().Index().Float64().Values(jen.Lit(0.01), jen.Lit(0.1), jen.Lit(0.5))).Block(
 				jen.Id("x").Op(":=").Id("start"),
 				jen.For(jen.Id("i").Op(":=").Range().Id("x")).Block(
-					jen.Id("x").Index(jen.Id("i")).Op("-=").Id(s.Elem).Call(jen.Id("part").Op("*").Id("size").Op("*").Float64().Call(jen.Id("g0").Index(jen.Id("i"))).Op("/").Id("steepest")),
+					jen.Id("x").Index(jen.Id("i")).Op("-=").Id(s.Elem).Call(times(times(jen.Id("part").Op("*").Id("size").Op("*").Float64().Call(jen.Id("g0").Index(jen.Id("i"))))).Op("/").Id("steepest")),
 				),
 				jen.Id("points").Op("=").Append(jen.Id("points"), inside(jen.Id("x"))),
 			),
@@ -361,17 +393,27 @@ func emitGradientCheck(f *jen.File, p *Plan, helper string, setup func() []jen.C
 			jen.Id("g").Op(":=").Id("gradient").Call(append(recvArg, jen.Id("x"))...),
 			jen.Id("fx").Op(":=").Qual("math", "Abs").Call(jen.Id("fv")),
 			jen.For(jen.Id("i").Op(":=").Range().Id("x")).Block(
-				jen.Id("h").Op(":=").Id(s.Elem).Call(jen.Op(formatFloat(math.Cbrt(rules.Roundoff(s.Elem)))).Op("*").Qual("math", "Max").Call(jen.Lit(1.0), jen.Qual("math", "Abs").Call(jen.Float64().Call(jen.Id("x").Index(jen.Id("i")))))),
+				jen.Id("h").Op(":=").Id(s.Elem).Call(jen.Op(formatFloat(math.Cbrt(rules.Roundoff(s.Elem)))).Op("*").Qual("math", "Max").Call(unit(), jen.Qual("math", "Abs").Call(jen.Float64().Call(jen.Id("x").Index(jen.Id("i")))))),
 				jen.List(jen.Id("up"), jen.Id("down")).Op(":=").List(jen.Id("x"), jen.Id("x")),
 				jen.Id("up").Index(jen.Id("i")).Op("+=").Id("h"),
 				jen.Id("down").Index(jen.Id("i")).Op("-=").Id("h"),
 				differenceAt(p, recvArg),
 				jen.Id("exact").Op(":=").Float64().Call(jen.Id("g").Index(jen.Id("i"))),
-				jen.Id("allowed").Op(":=").Op(tol).Op("*").Qual("math", "Max").Call(jen.Lit(1.0), jen.Qual("math", "Abs").Call(jen.Id("exact"))).Op("+").Lit(100).Op("*").Op(formatFloat(rules.Roundoff(s.Elem))).Op("*").Id("fx").Op("/").Float64().Call(jen.Id("h")),
+				scaleComparison(p),
+				jen.Id("allowed").Op(":=").Op(tol).Op("*").Qual("math", "Max").Call(jen.Lit(1.0), jen.Qual("math", "Abs").Call(jen.Id("exact"))).Op("+").Lit(100).Op("*").Op(formatFloat(rules.Roundoff(s.Elem))).Op("*").Id("fx").Op("/").Add(times(jen.Float64().Call(jen.Id("h")))),
 				jen.If(jen.Op("!").Parens(jen.Qual("math", "Abs").Call(jen.Id("approx").Op("-").Id("exact")).Op("<=").Id("allowed"))).Block(
 					jen.Id("t").Dot("Errorf").Call(jen.Lit("at %v: gradient component %d is %g, central differences give %g"), jen.Id("x"), jen.Id("i"), jen.Id("exact"), jen.Id("approx")),
 				),
 			),
 		),
 	)...)
+}
+
+// scaleComparison, with scale, turns the exact and approximate components
+// into scaled ones, sᵢ·∂f/∂xᵢ; nothing otherwise.
+func scaleComparison(p *Plan) jen.Code {
+	if !p.Scaled() {
+		return jen.Null()
+	}
+	return jen.List(jen.Id("exact"), jen.Id("approx")).Op("=").List(jen.Id("exact").Op("*").Id("sc").Index(jen.Id("i")), jen.Id("approx").Op("*").Id("sc").Index(jen.Id("i")))
 }

@@ -66,6 +66,15 @@ func Plans(specPaths []string) ([]*Plan, error) {
 		}
 		specs = append(specs, spec)
 	}
+	// The minimizer names each package is about to get, so that the
+	// package may already use them.
+	generates := map[string][]string{}
+	for _, spec := range specs {
+		dir, _ := filepath.Abs(spec.PackageDir)
+		for _, m := range spec.Minimizers {
+			generates[dir] = append(generates[dir], m.Name)
+		}
+	}
 	packages := map[string]*loadedPackage{}
 	var plans []*Plan
 	for _, spec := range specs {
@@ -76,7 +85,7 @@ func Plans(specPaths []string) ([]*Plan, error) {
 		dir, _ := filepath.Abs(spec.PackageDir)
 		lp, seen := packages[dir]
 		if !seen {
-			lp = loadPackage(spec.PackageDir, &probs)
+			lp = loadPackage(spec.PackageDir, &probs, generates[dir]...)
 			packages[dir] = lp
 		}
 		if lp == nil {

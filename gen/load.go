@@ -66,8 +66,11 @@ type loadedPackage struct {
 }
 
 // loadPackage type-checks the package in dir. Type errors in files thalweg
-// generated are ignored: they are about to be replaced.
-func loadPackage(dir string, probs *Problems) *loadedPackage {
+// generated are ignored: they are about to be replaced. So is a use of an
+// undefined name that begins with one of the minimizer names in
+// generates: the user's code may call a minimizer (and name its result
+// and status types) before its first generation.
+func loadPackage(dir string, probs *Problems, generates ...string) *loadedPackage {
 	abs, err := filepath.Abs(dir)
 	if err != nil {
 		probs.add(Pos{dir, 1, 1}, "%v", err)
@@ -100,11 +103,29 @@ func loadPackage(dir string, probs *Problems) *loadedPackage {
 			if lp.aboutGeneratedFile(problem.Msg) {
 				continue // a clash with an old generated file: checkCollisions says it better
 			}
+			if undefinedGenerated(problem.Msg, generates) {
+				continue // about to be generated
+			}
 			problem.Msg = strings.Join(strings.Fields(problem.Msg), " ")
 			*probs = append(*probs, problem)
 		}
 	}
 	return lp
+}
+
+// undefinedGenerated reports whether msg is "undefined: NAME" for a NAME
+// that begins with one of the minimizer names about to be generated.
+func undefinedGenerated(msg string, generates []string) bool {
+	name, ok := strings.CutPrefix(msg, "undefined: ")
+	if !ok {
+		return false
+	}
+	for _, g := range generates {
+		if g != "" && strings.HasPrefix(name, g) {
+			return true
+		}
+	}
+	return false
 }
 
 // aboutGeneratedFile reports whether a redeclaration error is about a

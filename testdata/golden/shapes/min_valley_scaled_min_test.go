@@ -71,7 +71,7 @@ func TestMinValleyScaledRespectsEvaluationCap(t *testing.T) {
 	}
 }
 
-// TestMinValleyScaledGradientMatchesDifferences compares DepthGradient with central differences, h = ∛u·max(1, |xᵢ|), at the start, two nearby points, three points along the first search direction −∇f (at 1%, 10% and 50% of max(1, ‖x0‖∞)) and where the run from start ends, so that a gradient wrong only near the minimizer is caught too. It allows the truncation error as 1e-6 relative to max(1, |gᵢ|) (common practice) plus 100 times the rounding bound u·|f|/h (Nocedal & Wright 2006, §8.1). NaN or ±Inf fails at the start and its neighbours; points farther out where f is not finite lie outside the objective's domain and are skipped. With bounds every point is projected into the box and the objective is never evaluated outside it: where the box leaves no room for ±h the three-point endpoint formula on the side with room takes over (Burden & Faires, Numerical Analysis, §4.1), and a component whose box is narrower than 2h is not checked.
+// TestMinValleyScaledGradientMatchesDifferences compares DepthGradient with central differences, h = ∛u·max(1, |xᵢ|), at the start, two nearby points, three points along the first search direction −∇f (at 1%, 10% and 50% of max(1, ‖x0‖∞)) and where the run from start ends, so that a gradient wrong only near the minimizer is caught too. It allows the truncation error as 1e-6 relative to max(1, |gᵢ|) (common practice) plus 100 times the rounding bound u·|f|/h (Nocedal & Wright 2006, §8.1). NaN or ±Inf fails at the start and its neighbours; points farther out where f is not finite lie outside the objective's domain and are skipped. With bounds every point is projected into the box and the objective is never evaluated outside it: where the box leaves no room for ±h the three-point endpoint formula on the side with room takes over (Burden & Faires, Numerical Analysis, §4.1), and a component whose box is narrower than 2h is not checked. With scale, lengths are in units of sᵢ (h = ∛u·max(sᵢ, |xᵢ|), the nearby points and the steps along −∇f in z = x/s) and the scaled components sᵢ·∂f/∂xᵢ are compared.
 func TestMinValleyScaledGradientMatchesDifferences(t *testing.T) {
 	recv := minValleyScaledTestReceiver()
 	b := minValleyScaledBox{
@@ -89,6 +89,7 @@ func TestMinValleyScaledGradientMatchesDifferences(t *testing.T) {
 		}
 		return x
 	}
+	sc := [2]float64{0.5, 4.0}
 	value := func(recv *Valley, x [2]float64) float64 {
 		return recv.Depth(x)
 	}
@@ -101,20 +102,20 @@ func TestMinValleyScaledGradientMatchesDifferences(t *testing.T) {
 	for k := 1; k < 3; k++ {
 		x := start
 		for i := range x {
-			x[i] += float64(k) * 0.01 * float64(i+1)
+			x[i] += float64(float64(k) * 0.01 * float64(i+1) * sc[i])
 		}
 		points = append(points, inside(x))
 	}
 	g0, steepest, size := gradient(recv, start), 0.0, 1.0
 	for i := range start {
-		steepest = math.Max(steepest, math.Abs(float64(g0[i])))
-		size = math.Max(size, math.Abs(float64(start[i])))
+		steepest = math.Max(steepest, math.Abs(float64(g0[i])*sc[i]))
+		size = math.Max(size, math.Abs(float64(start[i])/sc[i]))
 	}
 	if steepest > 0 && !math.IsInf(steepest, 0) {
 		for _, part := range []float64{0.01, 0.1, 0.5} {
 			x := start
 			for i := range x {
-				x[i] -= float64(part * size * float64(g0[i]) / steepest)
+				x[i] -= float64(part * size * float64(g0[i]) * sc[i] * sc[i] / steepest)
 			}
 			points = append(points, inside(x))
 		}
@@ -128,7 +129,7 @@ func TestMinValleyScaledGradientMatchesDifferences(t *testing.T) {
 		g := gradient(recv, x)
 		fx := math.Abs(fv)
 		for i := range x {
-			h := float64(4.806217383937352e-06 * math.Max(1.0, math.Abs(float64(x[i]))))
+			h := float64(4.806217383937352e-06 * math.Max(sc[i], math.Abs(float64(x[i]))))
 			up, down := x, x
 			up[i] += h
 			down[i] -= h
@@ -148,7 +149,8 @@ func TestMinValleyScaledGradientMatchesDifferences(t *testing.T) {
 				continue // the box is narrower than the stencil along xᵢ
 			}
 			exact := float64(g[i])
-			allowed := 1e-6*math.Max(1.0, math.Abs(exact)) + 100*1.1102230246251565e-16*fx/float64(h)
+			exact, approx = exact*sc[i], approx*sc[i]
+			allowed := 1e-6*math.Max(1.0, math.Abs(exact)) + 100*1.1102230246251565e-16*fx/float64(h)*sc[i]
 			if !(math.Abs(approx-exact) <= allowed) {
 				t.Errorf("at %v: gradient component %d is %g, central differences give %g", x, i, exact, approx)
 			}
