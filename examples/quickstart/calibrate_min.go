@@ -88,6 +88,9 @@ func CalibrateDefaultLimits() CalibrateLimits {
 	}
 }
 
+// calibrateBox is empty: quickstart.toml sets no bounds on Calibrate.
+type calibrateBox struct{}
+
 // Calibrate minimizes CalibrationError from x0, as quickstart.toml specifies.
 //
 // Direction bfgs: BFGS quasi-Newton with a dense inverse-Hessian approximation (dim² numbers).
@@ -105,7 +108,7 @@ func Calibrate(x0 [2]float64) CalibrateResult {
 
 // CalibrateWithLimits is Calibrate with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func CalibrateWithLimits(x0 [2]float64, limits CalibrateLimits) CalibrateResult {
-	out := calibrateMinimize(x0, limits)
+	out := calibrateMinimize(x0, limits, calibrateBox{})
 	return CalibrateResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func calibrateMinimize(x0 [2]float64, lim CalibrateLimits) calibrateOutcome {
-	out := calibrateOutcome{x: x0, status: CalibrateOutOfEvaluations, gradient: math.NaN()}
+func calibrateMinimize(x0 [2]float64, lim CalibrateLimits, bounds calibrateBox) calibrateOutcome {
+	x := x0
+	calibrateEnterBox(&x, &bounds)
+	out := calibrateOutcome{x: x, status: CalibrateOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := CalibrationError(&x)
 	out.f, out.evaluations = fx, 1
 	if !calibrateFinite(fx) || !calibrateFiniteVec(&x) {
 		out.status = CalibrateNonFiniteStart
 		return out
 	}
-	var diffs calibrateDifferences
+	diffs := calibrateDifferences{bounds: bounds}
 	calls, ok := calibrateCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+calibrateDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [2]float64
-	calibrateDerivative(&x, fx, &g, &diffs)
-	out.evaluations += calibrateDerivativeCost
+	out.evaluations += calibrateDerivative(&x, fx, &g, &diffs)
 
 	if !calibrateFiniteVec(&g) {
 		out.status = CalibrateNonFiniteGradient
@@ -211,7 +214,7 @@ func calibrateMinimize(x0 [2]float64, lim CalibrateLimits) calibrateOutcome {
 		case !confirmed:
 			calibrateGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := calibrateGradientMeasure(&g, &e, &x, fx)
+		measure, floor := calibrateStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, calibrateLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func calibrateMinimize(x0 [2]float64, lim CalibrateLimits) calibrateOutcome {
 			if rises >= 8 {
 				return best.ending(CalibrateDiverged, out.iterations, out.evaluations)
 			}
+			calibrateCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(CalibrateOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		calibrateSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := calibrateDot(&g, &d)
 		if !(now < 0) || !calibrateFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			calibrateSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = calibrateDot(&g, &d)
 		}
 		first := float64(calibrateStepInitial)
@@ -267,7 +271,7 @@ func calibrateMinimize(x0 [2]float64, lim CalibrateLimits) calibrateOutcome {
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := calibrateTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := calibrateLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := calibrateLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case calibrateSearchOutOfBudget:
@@ -303,8 +307,7 @@ func calibrateMinimize(x0 [2]float64, lim CalibrateLimits) calibrateOutcome {
 				}
 				return best.ending(CalibrateOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			calibrateDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += calibrateDerivativeCost
+			out.evaluations += calibrateDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		calibrateDifference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o calibrateOutcome) ending(end CalibrateStatus, iterations, evaluations in
 	return o
 }
 
+// calibrateEnterBox: without bounds every start is inside.
+func calibrateEnterBox(x *[2]float64, b *calibrateBox) {}
+
 // calibrateFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func calibrateFiniteVec(x *[2]float64) bool {
 	return true
 }
 
-// calibrateDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// calibrateDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type calibrateDifferences struct {
 	ratio     [2]float64
 	curvature [2]float64
 	second    [2]float64 // |f″| along e_i, for the rounding floor of a stall (see calibrateRoundingFloor)
+	bounds    calibrateBox
 }
 
 // calibrateCalibrate: an analytic gradient needs no intervals.
@@ -384,8 +392,9 @@ func calibrateCalibrate(x *[2]float64, fx float64, diffs *calibrateDifferences, 
 }
 
 // calibrateDerivative calls the user's gradient; it costs no objective calls.
-func calibrateDerivative(x *[2]float64, fx float64, g *[2]float64, diffs *calibrateDifferences) {
+func calibrateDerivative(x *[2]float64, fx float64, g *[2]float64, diffs *calibrateDifferences) int {
 	CalibrationGradient(x, g)
+	return 0
 }
 
 // calibrateDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
@@ -525,13 +534,13 @@ func calibrateConfirmGradient(x *[2]float64, fx float64, g, e *[2]float64, diffs
 		wide.ratio[i] *= 2
 	}
 	var doubled [2]float64
-	calibrateDerivative(x, fx, g, diffs)
-	calibrateDerivative(x, fx, &doubled, &wide)
+	calls += calibrateDerivative(x, fx, g, diffs)
+	calls += calibrateDerivative(x, fx, &doubled, &wide)
 	calibrateGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * calibrateAbs(g[i]-doubled[i])
 	}
-	return calls + 2*calibrateDerivativeCost, true
+	return calls, true
 }
 
 // calibrateGradientError: the analytic gradient is taken as exact; its error is
@@ -573,18 +582,60 @@ func calibrateDiagonalCurvature(x, g *[2]float64, diffs *calibrateDifferences, h
 	var moved [2]float64
 	for i := range probe {
 		xi := probe[i]
-		up, delta := calibrateProbeStep(xi, calibrateSquareRoot(calibrateUnitRoundoff)*calibrateLarger(1, calibrateAbs(xi)))
-		probe[i] = up
-		CalibrationGradient(&probe, &moved)
-		h[i] = calibrateAbs(moved[i]-g[i]) / delta
-		probe[i] = xi
+		lower, upper := calibrateCoordinateRange(i, diffs)
+		up, delta := calibrateProbeStep(xi, calibrateOneSide(xi, calibrateSquareRoot(calibrateUnitRoundoff)*calibrateLarger(1, calibrateAbs(xi)), 1, lower, upper), lower, upper)
+		h[i] = 0 // fixed by equal bounds
+		if delta != 0 {
+			probe[i] = up
+			CalibrationGradient(&probe, &moved)
+			h[i] = calibrateAbs(moved[i]-g[i]) / calibrateAbs(delta)
+			probe[i] = xi
+		}
 	}
 }
 
-// calibrateProbeStep returns x_i moved by h, and the step actually representable.
-func calibrateProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// calibrateCoordinateRange: without bounds any probe is allowed.
+func calibrateCoordinateRange(i int, diffs *calibrateDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// calibrateProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func calibrateProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := calibrateClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// calibrateClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func calibrateClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// calibrateOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func calibrateOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
 }
 
 // calibrateSquareRoot returns √v.
@@ -600,6 +651,11 @@ func calibrateLarger(a, b float64) float64 {
 		return a
 	}
 	return b
+}
+
+// calibrateStationarity measures the gradient itself.
+func calibrateStationarity(g, e, x *[2]float64, fx float64, b *calibrateBox) (measure, floor float64) {
+	return calibrateGradientMeasure(g, e, x, fx)
 }
 
 // calibrateGradientMeasure is the scale-free measure
@@ -635,6 +691,14 @@ func calibrateStepWithin(s, x *[2]float64, tol float64) bool {
 	return true
 }
 
+// calibrateCurvaturePair: without bounds the pair is used as it is.
+func calibrateCurvaturePair(s, y, x *[2]float64, b *calibrateBox) {}
+
+// calibrateSearchDirection is the direction's own.
+func calibrateSearchDirection(dir *calibrateDirection, x, g, d *[2]float64, b *calibrateBox) {
+	dir.compute(g, d)
+}
+
 // calibrateTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func calibrateTinyStep(x, d *[2]float64, tol float64) float64 {
@@ -653,7 +717,7 @@ func calibrateTinyStep(x, d *[2]float64, tol float64) float64 {
 // acceptance test holds, taking t ← next trial after each
 // failure, by fixed shrink or by interpolation (Nocedal & Wright 2006,
 // Algorithm 3.1 and §3.5). A non-finite value fails like any trial.
-func calibrateLineSearch(x *[2]float64, fx float64, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *calibrateDifferences) calibrateLineResult {
+func calibrateLineSearch(x *[2]float64, fx float64, g, d *[2]float64, slope, first, tiny float64, budget int, xt, gt *[2]float64, diffs *calibrateDifferences) calibrateLineResult {
 	t := first
 	var previous, fPrevious float64
 	var trend calibrateRiseTrend
@@ -664,9 +728,9 @@ func calibrateLineSearch(x *[2]float64, fx float64, d *[2]float64, slope, first,
 		if trial >= budget {
 			return calibrateLineResult{calls: trial, end: calibrateSearchOutOfBudget}
 		}
-		calibrateMoveTo(xt, x, t, d)
+		calibrateTrialPoint(xt, x, t, d, &diffs.bounds)
 		ft := CalibrationError(xt)
-		if calibrateFinite(ft) && calibrateAcceptable(fx, ft, t, slope) {
+		if calibrateFinite(ft) && calibrateAcceptable(fx, ft, t, slope, x, xt, g) {
 			return calibrateLineResult{step: t, value: ft, calls: trial + 1, end: calibrateSearchAccepted}
 		}
 		trend.add(x, xt, d, t, ft-fx, fx)
@@ -769,6 +833,11 @@ const (
 	calibrateSearchDiverged                              // a fixed step's value overflowed
 )
 
+// calibrateTrialPoint is x + t·d.
+func calibrateTrialPoint(out, x *[2]float64, t float64, d *[2]float64, b *calibrateBox) {
+	calibrateMoveTo(out, x, t, d)
+}
+
 // calibrateMoveTo sets out = x + t·d.
 func calibrateMoveTo(out, x *[2]float64, t float64, d *[2]float64) {
 	for i := range x {
@@ -787,7 +856,7 @@ func calibrateMoveTo(out, x *[2]float64, t float64, d *[2]float64) {
 //     first partial derivatives, Pacific J. Math. 16(1):1–3, 1966.
 //   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
 //     Springer, 2006, §3.1 and §3.5.
-func calibrateAcceptable(fx, ft, t, slope float64) bool {
+func calibrateAcceptable(fx, ft, t, slope float64, x, xt, g *[2]float64) bool {
 	return ft <= fx+calibrateStepDecrease*t*slope // N&W eq. 3.4
 }
 

@@ -88,6 +88,9 @@ func TuneGainDefaultLimits() TuneGainLimits {
 	}
 }
 
+// tuneGainBox is empty: quickstart.toml sets no bounds on TuneGain.
+type tuneGainBox struct{}
+
 // TuneGain minimizes GainCost from x0, as quickstart.toml specifies.
 //
 // Direction bfgs: BFGS quasi-Newton with a dense inverse-Hessian approximation (dim² numbers).
@@ -105,7 +108,7 @@ func TuneGain(x0 float64) TuneGainResult {
 
 // TuneGainWithLimits is TuneGain with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func TuneGainWithLimits(x0 float64, limits TuneGainLimits) TuneGainResult {
-	out := tuneGainMinimize([1]float64{x0}, limits)
+	out := tuneGainMinimize([1]float64{x0}, limits, tuneGainBox{})
 	return TuneGainResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -158,27 +161,27 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func tuneGainMinimize(x0 [1]float64, lim TuneGainLimits) tuneGainOutcome {
-	out := tuneGainOutcome{x: x0, status: TuneGainOutOfEvaluations, gradient: math.NaN()}
+func tuneGainMinimize(x0 [1]float64, lim TuneGainLimits, bounds tuneGainBox) tuneGainOutcome {
+	x := x0
+	tuneGainEnterBox(&x, &bounds)
+	out := tuneGainOutcome{x: x, status: TuneGainOutOfEvaluations, gradient: math.NaN()}
 	if lim.Evaluations < 1 {
 		return out
 	}
-	x := x0
 	fx := GainCost(x[0])
 	out.f, out.evaluations = fx, 1
 	if !tuneGainFinite(fx) || !tuneGainFiniteVec(&x) {
 		out.status = TuneGainNonFiniteStart
 		return out
 	}
-	var diffs tuneGainDifferences
+	diffs := tuneGainDifferences{bounds: bounds}
 	calls, ok := tuneGainCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
 	out.evaluations += calls
 	if !ok || out.evaluations+tuneGainDerivativeCost > lim.Evaluations {
 		return out
 	}
 	var g, e [1]float64
-	tuneGainDerivative(&x, fx, &g, &diffs)
-	out.evaluations += tuneGainDerivativeCost
+	out.evaluations += tuneGainDerivative(&x, fx, &g, &diffs)
 
 	if !tuneGainFiniteVec(&g) {
 		out.status = TuneGainNonFiniteGradient
@@ -211,7 +214,7 @@ func tuneGainMinimize(x0 [1]float64, lim TuneGainLimits) tuneGainOutcome {
 		case !confirmed:
 			tuneGainGradientError(&x, fx, &g, &e, &diffs)
 		}
-		measure, floor := tuneGainGradientMeasure(&g, &e, &x, fx)
+		measure, floor := tuneGainStationarity(&g, &e, &x, fx, &diffs.bounds)
 		out.gradient, out.gradientLimit = measure, tuneGainLarger(lim.Gradient, 3*floor)
 		if stalled {
 			// No step can make progress here: the gradient is as small as
@@ -250,16 +253,17 @@ func tuneGainMinimize(x0 [1]float64, lim TuneGainLimits) tuneGainOutcome {
 			if rises >= 8 {
 				return best.ending(TuneGainDiverged, out.iterations, out.evaluations)
 			}
+			tuneGainCurvaturePair(&s, &y, &x, &diffs.bounds)
 			dir.update(&s, &y)
 		}
 		if out.iterations >= lim.Iterations {
 			return best.ending(TuneGainOutOfIterations, out.iterations, out.evaluations)
 		}
-		dir.compute(&g, &d)
+		tuneGainSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 		now := tuneGainDot(&g, &d)
 		if !(now < 0) || !tuneGainFiniteVec(&d) {
 			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
+			tuneGainSearchDirection(&dir, &x, &g, &d, &diffs.bounds)
 			now = tuneGainDot(&g, &d)
 		}
 		first := float64(tuneGainStepInitial)
@@ -267,7 +271,7 @@ func tuneGainMinimize(x0 [1]float64, lim TuneGainLimits) tuneGainOutcome {
 			first = dir.firstTrial(t, slope, now)
 		}
 		tiny := tuneGainTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := tuneGainLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
+		found := tuneGainLineSearch(&x, fx, &g, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
 		out.evaluations += found.calls
 		switch found.end {
 		case tuneGainSearchOutOfBudget:
@@ -303,8 +307,7 @@ func tuneGainMinimize(x0 [1]float64, lim TuneGainLimits) tuneGainOutcome {
 				}
 				return best.ending(TuneGainOutOfEvaluations, out.iterations, out.evaluations)
 			}
-			tuneGainDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += tuneGainDerivativeCost
+			out.evaluations += tuneGainDerivative(&xt, found.value, &gt, &diffs)
 		}
 		out.iterations++
 		tuneGainDifference(&s, &xt, &x)
@@ -345,6 +348,9 @@ func (o tuneGainOutcome) ending(end TuneGainStatus, iterations, evaluations int)
 	return o
 }
 
+// tuneGainEnterBox: without bounds every start is inside.
+func tuneGainEnterBox(x *[1]float64, b *tuneGainBox) {}
+
 // tuneGainFinite reports whether v is neither NaN nor ±Inf, by comparing it with
 // the largest finite value of elem: a NaN fails both comparisons. The
 // shorter test v-v == 0 is not used, since it relies on exact
@@ -367,15 +373,17 @@ func tuneGainFiniteVec(x *[1]float64) bool {
 	return true
 }
 
-// tuneGainDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// tuneGainDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type tuneGainDifferences struct {
 	ratio     [1]float64
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see tuneGainRoundingFloor)
+	bounds    tuneGainBox
 }
 
 // tuneGainCalibrate chooses each central-difference interval from the
@@ -397,19 +405,45 @@ func tuneGainCalibrate(x *[1]float64, fx float64, diffs *tuneGainDifferences, bu
 	var slope [1]float64
 	scale := tuneGainAbs(fx)
 	quarter := tuneGainSquareRoot(tuneGainSquareRoot(tuneGainUnitRoundoff)) // u^(1/4)
+	calls := 0
 	for i := range probe {
-		if 4*(i+1) > budget {
-			return 4 * i, false
+		if calls+4 > budget {
+			return calls, false
 		}
 		xi := probe[i]
 		bar := quarter * tuneGainLarger(1, tuneGainAbs(xi))
+		lower, upper := tuneGainCoordinateRange(i, diffs)
+		if xi+2*bar > upper || xi-2*bar < lower {
+			// At a bound: three probes on the side with room, at h, 2h
+			// and 3h, for f‴ ≈ (f(3h) − 3f(2h) + 3f(h) − f(0))/h³ (the
+			// third forward difference).
+			h := tuneGainOneSide(xi, bar, 3, lower, upper)
+			if h == 0 {
+				continue // fixed by equal bounds
+			}
+			var f [3]float64
+			for k := range f {
+				probe[i], _ = tuneGainProbeStep(xi, float64(k+1)*h, lower, upper)
+				f[k] = GainCost(probe[0])
+				scale = tuneGainLarger(scale, tuneGainMagnitude(f[k]))
+			}
+			probe[i] = xi
+			calls += 3
+			if tuneGainFinite(f[0]) && tuneGainFinite(f[1]) && tuneGainFinite(f[2]) {
+				diffs.curvature[i] = tuneGainAbs(f[2]-3*f[1]+3*f[0]-fx) / tuneGainAbs(h*h*h)
+				diffs.second[i] = tuneGainAbs(fx-2*f[0]+f[1]) / (h * h)
+				slope[i] = (-3*fx + 4*f[0] - f[1]) / (2 * h)
+			}
+			continue
+		}
 		var f [4]float64
 		for k, m := range [4]float64{2, 1, -1, -2} {
-			probe[i], _ = tuneGainProbeStep(xi, m*bar)
+			probe[i], _ = tuneGainProbeStep(xi, m*bar, lower, upper)
 			f[k] = GainCost(probe[0])
 			scale = tuneGainLarger(scale, tuneGainMagnitude(f[k]))
 		}
 		probe[i] = xi
+		calls += 4
 		if tuneGainFinite(f[0]) && tuneGainFinite(f[1]) && tuneGainFinite(f[2]) && tuneGainFinite(f[3]) {
 			diffs.curvature[i] = tuneGainAbs(f[0]-2*f[1]+2*f[2]-f[3]) / (2 * bar * bar * bar)
 			diffs.second[i] = tuneGainAbs(f[1]-2*fx+f[2]) / (bar * bar)
@@ -428,7 +462,7 @@ func tuneGainCalibrate(x *[1]float64, fx float64, diffs *tuneGainDifferences, bu
 		diffs.ratio[i] = tuneGainClampBetween(h, 64*tuneGainUnitRoundoff*s, bar) / s
 		diffs.curvature[i] = third
 	}
-	return 4 * len(probe), true
+	return calls, true
 }
 
 // tuneGainAbs returns |v|.
@@ -454,10 +488,48 @@ func tuneGainLarger(a, b float64) float64 {
 	return b
 }
 
-// tuneGainProbeStep returns x_i moved by h, and the step actually representable.
-func tuneGainProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
+// tuneGainCoordinateRange: without bounds any probe is allowed.
+func tuneGainCoordinateRange(i int, diffs *tuneGainDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// tuneGainOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func tuneGainOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
+}
+
+// tuneGainProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func tuneGainProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := tuneGainClampBetween(xi+h, lower, upper)
 	return moved, moved - xi
+}
+
+// tuneGainClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func tuneGainClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
 }
 
 // tuneGainMagnitude is |v| for a finite v and 0 otherwise: a probe that fell
@@ -493,42 +565,85 @@ func tuneGainCubeRoot(v float64) float64 {
 	return math.Cbrt(v)
 }
 
-// tuneGainClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func tuneGainClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
-}
-
 // tuneGainDerivative approximates the gradient by central differences,
 //
 //	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),
 //
 // with the intervals tuneGainCalibrate chose, h_i = ratio_i·max(1, |x_i|)
-// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls; fx is
-// not needed.
-func tuneGainDerivative(x *[1]float64, fx float64, g *[1]float64, diffs *tuneGainDifferences) {
+// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls. Where
+// a bound leaves no room on one side, the three-point endpoint formula on
+// the other side takes its place at the same cost (see parabola); a
+// variable fixed by equal bounds costs nothing and gets 0.
+func tuneGainDerivative(x *[1]float64, fx float64, g *[1]float64, diffs *tuneGainDifferences) int {
 	probe := *x
+	calls := 0
 	for i := range probe {
 		xi := probe[i]
-		h := diffs.ratio[i] * tuneGainLarger(1, tuneGainAbs(xi))
-		up, _ := tuneGainProbeStep(xi, h)
-		down, _ := tuneGainProbeStep(xi, -h)
-		probe[i] = up
-		fUp := GainCost(probe[0])
-		probe[i] = down
-		fDown := GainCost(probe[0])
-		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
-		probe[i] = xi
+		h, oneSided := tuneGainCentralInterval(x, i, diffs)
+		lower, upper := tuneGainCoordinateRange(i, diffs)
+		switch {
+		case h == 0:
+			g[i] = 0 // fixed by equal bounds
+			continue
+		case oneSided:
+			g[i], _, _ = tuneGainSidedProbes(&probe, i, fx, h, lower, upper) // the three-point endpoint formula
+		default:
+			up, _ := tuneGainProbeStep(xi, h, lower, upper)
+			down, _ := tuneGainProbeStep(xi, -h, lower, upper)
+			probe[i] = up
+			fUp := GainCost(probe[0])
+			probe[i] = down
+			fDown := GainCost(probe[0])
+			g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+			probe[i] = xi
+		}
+		calls += 2
 	}
+	return calls
+}
+
+// tuneGainCentralInterval is the interval of coordinate i at x, ratio_i·max(1,
+// |x_i|), and whether the box leaves room for probes on both sides; when
+// it does not, the interval is signed towards the side with room for
+// probes at h and 2h, and shortened where the box is narrower than that
+// (see tuneGainOneSide).
+func tuneGainCentralInterval(x *[1]float64, i int, diffs *tuneGainDifferences) (h float64, oneSided bool) {
+	lower, upper := tuneGainCoordinateRange(i, diffs)
+	h = diffs.ratio[i] * tuneGainLarger(1, tuneGainAbs(x[i]))
+	if x[i]+h <= upper && x[i]-h >= lower {
+		return h, false
+	}
+	return tuneGainOneSide(x[i], h, 2, lower, upper), true
+}
+
+// tuneGainSidedProbes evaluates f at x moved along coordinate i by h and by 2h,
+// kept within [lower, upper], and returns the slope and second derivative
+// of the parabola through them and (x, fx) (see parabola), and the larger
+// magnitude of the two values.
+func tuneGainSidedProbes(probe *[1]float64, i int, fx, h, lower, upper float64) (slope, second, size float64) {
+	xi := probe[i]
+	near, a := tuneGainProbeStep(xi, h, lower, upper)
+	far, b := tuneGainProbeStep(xi, 2*h, lower, upper)
+	probe[i] = near
+	fNear := GainCost(probe[0])
+	probe[i] = far
+	fFar := GainCost(probe[0])
+	probe[i] = xi
+	slope, second = tuneGainParabola(fx, a, fNear, b, fFar)
+	return slope, second, tuneGainLarger(tuneGainMagnitude(fNear), tuneGainMagnitude(fFar))
+}
+
+// tuneGainParabola returns the first and second derivatives at 0 of the parabola
+// through (0, f0), (a, fa) and (b, fb), for probes on one side of a bound.
+// With b = 2a they are the three-point endpoint formulas
+// f′ ≈ (−3f0 + 4fa − fb)/(2a), error a²|f‴|/3, and
+// f″ ≈ (f0 − 2fa + fb)/a² (Burden & Faires, Numerical Analysis, §4.1
+// and §4.1's second-derivative formulas, from memory); written for unequal
+// a and b, so that the representable steps can be used.
+func tuneGainParabola(f0, a, fa, b, fb float64) (slope, second float64) {
+	slope = -(a+b)/(a*b)*f0 + b/(a*(b-a))*fa - a/(b*(b-a))*fb
+	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
+	return slope, second
 }
 
 // tuneGainDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
@@ -668,13 +783,13 @@ func tuneGainConfirmGradient(x *[1]float64, fx float64, g, e *[1]float64, diffs 
 		wide.ratio[i] *= 2
 	}
 	var doubled [1]float64
-	tuneGainDerivative(x, fx, g, diffs)
-	tuneGainDerivative(x, fx, &doubled, &wide)
+	calls += tuneGainDerivative(x, fx, g, diffs)
+	calls += tuneGainDerivative(x, fx, &doubled, &wide)
 	tuneGainGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * tuneGainAbs(g[i]-doubled[i])
 	}
-	return calls + 2*tuneGainDerivativeCost, true
+	return calls, true
 }
 
 // tuneGainGradientError bounds each central difference's error by twice its
@@ -684,8 +799,16 @@ func tuneGainConfirmGradient(x *[1]float64, fx float64, g, e *[1]float64, diffs 
 func tuneGainGradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *tuneGainDifferences) {
 	noise := tuneGainNoiseLevel(x, fx, g)
 	for i := range e {
-		h := diffs.ratio[i] * tuneGainLarger(1, tuneGainAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		h, oneSided := tuneGainCentralInterval(x, i, diffs)
+		h = tuneGainAbs(h)
+		switch {
+		case h == 0:
+			e[i] = 0 // fixed by equal bounds
+		case oneSided:
+			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+		default:
+			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		}
 	}
 }
 
@@ -707,6 +830,11 @@ func tuneGainRoundingFloor(x, g, e *[1]float64, diffs *tuneGainDifferences) {
 // calibration, which tuneGainConfirmGradient has just made at x.
 func tuneGainDiagonalCurvature(x, g *[1]float64, diffs *tuneGainDifferences, h *[1]float64) {
 	*h = diffs.second
+}
+
+// tuneGainStationarity measures the gradient itself.
+func tuneGainStationarity(g, e, x *[1]float64, fx float64, b *tuneGainBox) (measure, floor float64) {
+	return tuneGainGradientMeasure(g, e, x, fx)
 }
 
 // tuneGainGradientMeasure is the scale-free measure
@@ -742,6 +870,14 @@ func tuneGainStepWithin(s, x *[1]float64, tol float64) bool {
 	return true
 }
 
+// tuneGainCurvaturePair: without bounds the pair is used as it is.
+func tuneGainCurvaturePair(s, y, x *[1]float64, b *tuneGainBox) {}
+
+// tuneGainSearchDirection is the direction's own.
+func tuneGainSearchDirection(dir *tuneGainDirection, x, g, d *[1]float64, b *tuneGainBox) {
+	dir.compute(g, d)
+}
+
 // tuneGainTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func tuneGainTinyStep(x, d *[1]float64, tol float64) float64 {
@@ -760,7 +896,7 @@ func tuneGainTinyStep(x, d *[1]float64, tol float64) float64 {
 // acceptance test holds, taking t ← next trial after each
 // failure, by fixed shrink or by interpolation (Nocedal & Wright 2006,
 // Algorithm 3.1 and §3.5). A non-finite value fails like any trial.
-func tuneGainLineSearch(x *[1]float64, fx float64, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *tuneGainDifferences) tuneGainLineResult {
+func tuneGainLineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *tuneGainDifferences) tuneGainLineResult {
 	t := first
 	var previous, fPrevious float64
 	var trend tuneGainRiseTrend
@@ -771,9 +907,9 @@ func tuneGainLineSearch(x *[1]float64, fx float64, d *[1]float64, slope, first, 
 		if trial >= budget {
 			return tuneGainLineResult{calls: trial, end: tuneGainSearchOutOfBudget}
 		}
-		tuneGainMoveTo(xt, x, t, d)
+		tuneGainTrialPoint(xt, x, t, d, &diffs.bounds)
 		ft := GainCost(xt[0])
-		if tuneGainFinite(ft) && tuneGainAcceptable(fx, ft, t, slope) {
+		if tuneGainFinite(ft) && tuneGainAcceptable(fx, ft, t, slope, x, xt, g) {
 			return tuneGainLineResult{step: t, value: ft, calls: trial + 1, end: tuneGainSearchAccepted}
 		}
 		trend.add(x, xt, d, t, ft-fx, fx)
@@ -876,6 +1012,11 @@ const (
 	tuneGainSearchDiverged                             // a fixed step's value overflowed
 )
 
+// tuneGainTrialPoint is x + t·d.
+func tuneGainTrialPoint(out, x *[1]float64, t float64, d *[1]float64, b *tuneGainBox) {
+	tuneGainMoveTo(out, x, t, d)
+}
+
 // tuneGainMoveTo sets out = x + t·d.
 func tuneGainMoveTo(out, x *[1]float64, t float64, d *[1]float64) {
 	for i := range x {
@@ -894,7 +1035,7 @@ func tuneGainMoveTo(out, x *[1]float64, t float64, d *[1]float64) {
 //     first partial derivatives, Pacific J. Math. 16(1):1–3, 1966.
 //   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
 //     Springer, 2006, §3.1 and §3.5.
-func tuneGainAcceptable(fx, ft, t, slope float64) bool {
+func tuneGainAcceptable(fx, ft, t, slope float64, x, xt, g *[1]float64) bool {
 	return ft <= fx+tuneGainStepDecrease*t*slope // N&W eq. 3.4
 }
 
