@@ -47,8 +47,8 @@ const invSqrt2Pi = 0.3989422804014327
 //
 //	C = S·Φ(d₁) − K·e^(−rT)·Φ(d₂), d₁ = (ln(S/K) + (r + σ²/2)T)/(σ√T), d₂ = d₁ − σ√T
 //
-// (Black and Scholes 1973, eq. 13, the number from memory; Hull, Options, Futures, and Other
-// Derivatives, the Black–Scholes–Merton chapter).
+// (Black and Scholes 1973, eq. 13, the number from memory; Hull, Options,
+// Futures, and Other Derivatives, the Black–Scholes–Merton chapter).
 func CallPrice(spot, strike, rate, maturity, sigma float64) float64 {
 	d1, d2 := dPlusMinus(spot, strike, rate, maturity, sigma)
 	return spot*normalCDF(d1) - strike*math.Exp(-rate*maturity)*normalCDF(d2)
