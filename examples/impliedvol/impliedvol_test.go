@@ -40,9 +40,8 @@ func priceRounding(spot, strike, maturity, sigma float64) float64 {
 // chapter (Example 15.6 in the 9th edition; edition and number from
 // memory, not confirmed): S = 42, K = 40, r = 10 %, σ = 20 %, T = 0.5
 // gives d₁ = 0.7693, d₂ = 0.6278, K·e^(−rT) = 38.049, a call of 4.76 and
-// a put of 0.81 (the values from memory; they agree with the formula of
-// Black and Scholes 1973 as printed there). The book rounds to the
-// digits shown, so each value is held to half a unit of its last digit.
+// a put of 0.81 (the values from memory). The book rounds to the digits
+// shown, so each value is held to half a unit of its last digit.
 func TestCallPriceTextbookExample(t *testing.T) {
 	const spot, strike, rate, sigma, maturity = 42.0, 40.0, 0.10, 0.20, 0.5
 	d1, d2 := dPlusMinus(spot, strike, rate, maturity, sigma)
