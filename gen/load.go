@@ -45,7 +45,12 @@ type Shape struct {
 	Objective string // function or method name
 	Gradient  string // method or function name of the analytic gradient
 	Grad      GradForm
-	Instance  instance
+	// Combined says the objective returns its value and writes its
+	// gradient through a second parameter of its argument's form:
+	// func(x T, g *T) T, func(x [N]T, g *[N]T) T, func(x *[N]T, g *[N]T) T
+	// or func(x, g []T) T. It then has no separate gradient.
+	Combined bool
+	Instance instance
 }
 
 // instance says how the generated tests obtain a receiver.

@@ -121,6 +121,15 @@ func (p *Plan) kernelChoice() kernelChoice {
 			}
 		}
 	}
+	// A combined objective's gradient comes with its value: its picks
+	// override the analytic entry's.
+	combined := rules.Combined.Off
+	if p.Shape.Combined {
+		combined = rules.Combined.On
+	}
+	for dispatcher, alternative := range combined {
+		pick[dispatcher] = alternative
+	}
 	provided := map[string]string{
 		"status": p.M.Name + "Status",
 		"limits": p.M.Name + "Limits",

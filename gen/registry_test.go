@@ -78,6 +78,8 @@ func TestRegistryMatchesTemplates(t *testing.T) {
 	}
 	addPicks("bounds off", rules.Bounds.Off)
 	addPicks("bounds on", rules.Bounds.On)
+	addPicks("combined objective off", rules.Combined.Off)
+	addPicks("combined objective on", rules.Combined.On)
 	for _, q := range rules.Params() {
 		addPicks("switch "+q.Path()+" on", q.On)
 		addPicks("switch "+q.Path()+" off", q.Off)
