@@ -295,11 +295,16 @@ func specialize(c kernelChoice) (*specializedKernels, error) {
 		for _, d := range u.decls {
 			own := declName(d)
 			comments := cp.comments(commentsWithin(ks.fileOf(d), d)) // before renaming lengthens them
+			rw.notes = nil
 			copyDecl := rw.rewrite(cp.decl(d))
 			if rw.err != nil {
 				return nil, rw.err
 			}
 			rw.renameComments(comments, own)
+			if len(rw.notes) > 0 {
+				comments = append(comments, rw.notes...)
+				sort.SliceStable(comments, func(i, j int) bool { return comments[i].Pos() < comments[j].Pos() })
+			}
 			if err := printer.Fprint(&buf, ks.fset, &printer.CommentedNode{Node: copyDecl, Comments: comments}); err != nil {
 				return nil, err
 			}
@@ -342,6 +347,9 @@ type rewriter struct {
 	usesMath bool
 	trials   bool  // the declaration being rewritten is the line search, and trials are traced
 	err      error // a kernel call the objective's form cannot make (a thalweg bug)
+	// notes are comments the passes add to the declaration being
+	// rewritten, each at the end of the line it explains.
+	notes []*ast.CommentGroup
 }
 
 func (rw *rewriter) obj(id *ast.Ident) types.Object {
@@ -382,8 +390,11 @@ func (rw *rewriter) rewrite(d ast.Decl) ast.Decl {
 			}
 			if call, ok := n.X.(*ast.CallExpr); ok && rw.isRecvCall(call, "keepGradient") {
 				if s.Combined {
-					// rewrite recv.keepGradient(&g, &h) to g = h
-					cur.Replace(&ast.AssignStmt{Lhs: []ast.Expr{deref(call.Args[0])}, Tok: token.ASSIGN, TokPos: call.Pos(), Rhs: []ast.Expr{deref(call.Args[1])}})
+					// rewrite recv.keepGradient(&g, &h) to g = h // …
+					to, from := deref(call.Args[0]), deref(call.Args[1])
+					cur.Replace(&ast.AssignStmt{Lhs: []ast.Expr{to}, Tok: token.ASSIGN, TokPos: call.Pos(), Rhs: []ast.Expr{from}})
+					note := fmt.Sprintf("// ∇f at the start, which %s wrote into %s with fx (%s is not read again)", s.Objective, types.ExprString(from), types.ExprString(from))
+					rw.notes = append(rw.notes, &ast.CommentGroup{List: []*ast.Comment{{Slash: call.End(), Text: note}}})
 				} else {
 					cur.Delete() // rewrite recv.keepGradient(…) to nothing
 				}

@@ -261,13 +261,16 @@ func settleAt(recv *receiver, x *vec, fx elem, g, e *vec, diffs *differences, st
 }
 
 // settleCombined prepares a verdict at a stall for a combined objective,
-// one that gives its gradient only with its value: it adds to each error
-// bound the rounding floor 4u·|xᵢ|·|∂²f/∂xᵢ²| as roundingFloor does, with
-// each |∂²f/∂xᵢ²| probed from the gradient at x + δᵢeᵢ as probedCurvature
-// does, but every probe is an objective call here: at most dim of them,
-// each counted and kept within budget. It returns the calls spent and
-// false when budget ran out first. The gradient of a combined objective
-// is taken as exact, so nothing is to be confirmed before a stall.
+// which gives its gradient only with its value: it adds to each error
+// bound eᵢ the rounding floor 4u·|xᵢ|·|∂²f/∂xᵢ²|, the change that moving
+// xᵢ by a few of its rounding units makes in gᵢ (common practice), with
+// |∂²f/∂xᵢ²| a forward difference of the gradient at x + δᵢeᵢ,
+// δᵢ = √u·max(1, |xᵢ|) (Nocedal & Wright 2006, §8.1), as an analytic
+// gradient's stall does. Each probe is an objective call here: at most
+// dim of them, counted and kept within budget. It returns the calls spent
+// and false when budget ran out first. The gradient of a combined
+// objective is taken as exact (the generated test checks it), so nothing
+// is confirmed before a stall, and nothing is done elsewhere.
 func settleCombined(recv *receiver, x *vec, fx elem, g, e *vec, diffs *differences, stall bool, budget int) (int, bool) {
 	if !stall {
 		return 0, true
@@ -289,7 +292,7 @@ func settleCombined(recv *receiver, x *vec, fx elem, g, e *vec, diffs *differenc
 		recv.evaluate(&probe, &moved)
 		calls++
 		probe[i] = xi
-		e[i] += 4 * unitRoundoff * abs(x[i]) * abs(moved[i]-g[i]) / abs(delta) // see roundingFloor and probedCurvature
+		e[i] += 4 * unitRoundoff * abs(x[i]) * abs(moved[i]-g[i]) / abs(delta) // 4u·|xᵢ|·|∂²f/∂xᵢ²|
 	}
 	return calls, true
 }
