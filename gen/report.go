@@ -74,7 +74,11 @@ func ratio(measure, limit float64) float64 {
 // WriteTraceTable prints what the run was asked to do, one row per move
 // and the outcome.
 func WriteTraceTable(w io.Writer, p *Plan, res *TraceResult) error {
-	fmt.Fprintf(w, "%s: %s direction, %s step rule, %s gradient, from %s\n", p.M.Name, p.Direction.Name, p.Rule.Name, p.Derivative.Name, formatNumbers(p.M.Start))
+	source := p.Derivative.Name + " gradient"
+	if p.Shape.Combined {
+		source = "gradient with each value (combined objective)"
+	}
+	fmt.Fprintf(w, "%s: %s direction, %s step rule, %s, from %s\n", p.M.Name, p.Direction.Name, p.Rule.Name, source, formatNumbers(p.M.Start))
 	l := res.Limits
 	fmt.Fprintf(w, "stops when the largest |∂f/∂xᵢ| ≤ %s or every |Δxᵢ| ≤ %s·(|xᵢ| + 1), after at most %d moves and %d objective calls\n\n",
 		compactFloat(l.Gradient, 3), compactFloat(l.Step, 3), l.Iterations, l.Evaluations)
