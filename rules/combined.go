@@ -11,7 +11,7 @@ var Combined = &Feature{
 	Math: "f = objective(x, g) with g = ∇f(x): one call at the start and at every line-search trial, whose gradient is kept, so that the accepted point and the Wolfe curvature test need no second call; " +
 		"at a stall the rounding floor's curvature probes are dim more calls",
 	References: []string{NocedalWright + ", §8.1 (gradient checking: the generated test compares g with central differences of f)",
-		"A. Griewank and A. Walther, Evaluating Derivatives, 2nd ed., SIAM, 2008, §3.3 and §4.6 (reverse mode gives the gradient at a small multiple of the value's cost, from the value's own intermediate results; from memory)"},
+		"A. Griewank and A. Walther, Evaluating Derivatives: Principles and Techniques of Algorithmic Differentiation, 2nd ed., SIAM, 2008, ch. 4 (the cheap gradient principle: the reverse mode gives the gradient at a small multiple of the value's cost, reusing the value's intermediate results, which is why value and gradient are best computed together; recalled from memory)"},
 	Off: Picks{"settle": "settleAt"},
 	On:  Picks{"derivative": "givenGradient", "settle": "settleCombined"},
 }

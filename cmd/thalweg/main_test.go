@@ -489,6 +489,11 @@ func TestVersionAndRules(t *testing.T) {
 			t.Errorf("rules output has no entry for %q", name)
 		}
 	}
+	for _, feature := range []*rules.Feature{rules.Bounds, rules.Combined} {
+		if !strings.Contains(stdout, feature.Summary) || !strings.Contains(stdout, feature.Math) {
+			t.Errorf("rules output lacks a feature: %q", feature.Summary)
+		}
+	}
 }
 
 func containsLine(text, line string) bool {
