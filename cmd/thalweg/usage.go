@@ -76,8 +76,9 @@ SPEC, no longer produced)". Exit status: 0 when nothing is to be done,
 		},
 		notes: `The starter spec has every key with its default and a one-line comment;
 a gradient named <Objective>Grad or <Objective>Gradient that fits is
-proposed as the analytic one, and New<Type> as the instance. init never
-overwrites a file.`,
+proposed as the analytic one (an objective that writes its gradient
+through g gets derivative = "analytic" without one), and New<Type> as
+the instance. init never overwrites a file.`,
 		run: runInit,
 	}, {
 		name:     "tune",
