@@ -290,3 +290,37 @@ func TestCombinedNonFinite(t *testing.T) {
 		})
 	}
 }
+
+// The worst case the entry's doc comment states for a combined objective
+// (gen's Plan.WorstCase) holds: at most 1 call at the start, the rule's
+// calls in each of iterations + 1 searches (1 for a fixed step, stepTrials
+// otherwise, a gradient costing nothing more) and dim probes at a stall.
+func TestCombinedWorstCase(t *testing.T) {
+	for _, p := range twinPolicies() {
+		for _, prob := range twinProblems() {
+			if prob.bounded && p.kind == kindCG {
+				continue
+			}
+			t.Run(p.String()+"/"+prob.name, func(t *testing.T) {
+				p.use(t)
+				withCombined(t)
+				if prob.bounded {
+					withBounds(t)
+				}
+				perIteration := stepTrials
+				if p.rule == ruleFixed {
+					perIteration = 1
+				}
+				for _, iterations := range []int{0, 1, 2, 5, prob.lim.Iterations} {
+					recv, _ := combinedOf(prob.value, prob.gradient)
+					lim := prob.lim
+					lim.Iterations = iterations
+					out := minimize(recv, prob.start, lim, prob.b)
+					if bound := 1 + (iterations+1)*perIteration + dim; recv.calls > bound || out.evaluations != recv.calls {
+						t.Errorf("%d iterations allowed: %d calls (%d reported), above the worst case %d", iterations, recv.calls, out.evaluations, bound)
+					}
+				}
+			})
+		}
+	}
+}
