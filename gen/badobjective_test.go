@@ -61,6 +61,16 @@ type Vec = [2]float64
 func AliasObj(x Vec) float64 { return 0 }
 
 func ScalarGradWrong(x float64) float32 { return 0 }
+
+func Both(x, g *[2]float64) float64 { return 0 }
+
+func BothWrongDim(x *[2]float64, g *[3]float64) float64 { return 0 }
+
+func BothScalarWrongElem(x float64, g *float32) float64 { return 0 }
+
+func BothSliceArray(x []float64, g *[2]float64) float64 { return 0 }
+
+func (m Model) Both(x [2]float64, g *[2]float64) float64 { return 0 }
 `
 
 // misfitWant is one expected problem: in the spec at a line of the case's body
@@ -83,6 +93,7 @@ const (
 	acceptedGradientForm2  = "func(x *[N]T, g *[N]T)"
 	acceptedGradientForm3  = "func(x [N]T) [N]T"
 	acceptedGradientForm4  = "func(x, g []T)"
+	combinedObjectiveForms = "combined with the gradient written through g: func(x T, g *T) T, func(x [N]T, g *[N]T) T, func(x *[N]T, g *[N]T) T, func(x, g []T) T"
 )
 
 // misfits are minimizers whose objective, gradient or instance does not fit
@@ -337,6 +348,42 @@ instance = "Missing"
 start = [1.0, 2.0]`, []misfitWant{
 		misfitInSpec(2, 12, "instance Missing: no such variable or function in package bad"),
 	}},
+	{"analytic without a gradient key", `objective = "ScalarObj"
+derivative = "analytic"
+start = 1.0`, []misfitWant{
+		misfitInSpec(2, 14, `derivative = "analytic" needs a gradient key naming the gradient function, or an objective that writes its gradient (combined with the gradient written through g: func(x T, g *T) T`),
+	}},
+	{"combined objective with a gradient key", `objective = "Both"
+derivative = "analytic"
+gradient = "PlainGrad"
+start = [1.0, 2.0]`, []misfitWant{
+		misfitInSpec(3, 1, `objective Both writes its gradient through g (func(x *[2]float64, g *[2]float64) float64): remove the gradient key, derivative = "analytic" uses that gradient`),
+	}},
+	{"combined objective with differences", `objective = "Model.Both"
+derivative = "forward"
+start = [1.0, 2.0]`, []misfitWant{
+		misfitInSpec(2, 14, `objective Model.Both writes its gradient through g (func(x [2]float64, g *[2]float64) float64): set derivative = "analytic", without a gradient key (derivative is "forward", which would ignore it)`),
+	}},
+	{"combined objective with the default derivative", `objective = "Both"
+start = [1.0, 2.0]`, []misfitWant{
+		misfitInSpec(1, 13, `objective Both writes its gradient through g (func(x *[2]float64, g *[2]float64) float64): set derivative = "analytic", without a gradient key (derivative is "central", which would ignore it)`),
+	}},
+	{"combined objective whose g has another dimension", `objective = "BothWrongDim"
+derivative = "analytic"
+start = [1.0, 2.0]`, []misfitWant{
+		misfitInGo(53, 6, "objective BothWrongDim has signature func(x *[2]float64, g *[3]float64) float64", acceptedObjectiveForms, combinedObjectiveForms),
+	}},
+	{"combined scalar objective whose g has another type", `objective = "BothScalarWrongElem"
+derivative = "analytic"
+start = 1.0`, []misfitWant{
+		misfitInGo(55, 6, "objective BothScalarWrongElem has signature func(x float64, g *float32) float64", combinedObjectiveForms),
+	}},
+	{"combined slice objective whose g is an array", `objective = "BothSliceArray"
+derivative = "analytic"
+dim = 2
+start = [1.0, 2.0]`, []misfitWant{
+		misfitInGo(57, 6, "objective BothSliceArray has signature func(x []float64, g *[2]float64) float64", combinedObjectiveForms),
+	}},
 	{"instance for a plain function", `objective = "ScalarObj"
 instance = "DefaultModel"
 start = 1.0`, []misfitWant{
@@ -449,6 +496,13 @@ start = [1.0, 2.0]
 name = "Good4"
 objective = "AliasObj"
 start = [1.0, 2.0]
+
+[[minimizer]]
+name = "Good5"
+objective = "Model.Both"
+derivative = "analytic"
+instance = "DefaultModel"
+start = [1.0, 2.0]
 `
 	specPath := filepath.Join(dir, "good.toml")
 	if err := os.WriteFile(specPath, []byte(spec), 0o644); err != nil {
@@ -458,8 +512,8 @@ start = [1.0, 2.0]
 	if err != nil {
 		t.Fatalf("Plans: %v", err)
 	}
-	if len(plans) != 4 {
-		t.Fatalf("got %d plans, want 4", len(plans))
+	if len(plans) != 5 || !plans[4].Shape.Combined {
+		t.Fatalf("got %d plans, want 5, the last with a combined objective", len(plans))
 	}
 }
 

@@ -136,9 +136,6 @@ var badSpecs = []struct {
 	}},
 
 	// Keys that depend on other keys.
-	{"analytic_without_gradient.toml", []string{
-		`4:14: derivative = "analytic" needs a gradient key naming the gradient function`,
-	}},
 	{"gradient_not_analytic.toml", []string{
 		`5:1: gradient is only used with derivative = "analytic" (derivative is "forward")`,
 		`11:1: gradient is only used with derivative = "analytic" (derivative is "central")`,
@@ -235,7 +232,6 @@ var badSpecs = []struct {
 		`1:3: objective is required: "Func" or "Type.Method" in the package`,
 		"1:3: start is required: a typical starting point",
 		`2:8: name "fit" is not an exported Go identifier`,
-		`3:14: derivative = "analytic" needs a gradient key naming the gradient function`,
 		`5:1: memory is only used with direction = "lbfgs" (direction is "cg")`,
 		`8:8: direction "cg" needs a step rule with a curvature condition: with "fixed" its directions need not descend (Nocedal & Wright 2006, §5.2); use step.rule = "strong-wolfe"`,
 		`9:1: step.shrink is not used by rule "fixed"`,

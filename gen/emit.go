@@ -293,6 +293,28 @@ func emitScaling(f *jen.File, p *Plan) {
 	default:
 		arg = jen.Id("x").Index(jen.Op(":"))
 	}
+	if s.Combined {
+		// The combined objective writes ∂f/∂x into g; the kernels want
+		// ∂f/∂z = s∘∂f/∂x (chain rule).
+		var g jen.Code
+		switch s.Arg {
+		case ArgScalar:
+			g = jen.Op("&").Id("g").Index(jen.Lit(0))
+		case ArgSlice:
+			g = jen.Id("g").Index(jen.Op(":"))
+		default:
+			g = jen.Id("g")
+		}
+		f.Commentf("%sValueAt is the objective at the kernels' z, with its gradient with respect to z written into g by the chain rule, gᵢ = sᵢ·∂f/∂xᵢ.", p.Prefix)
+		f.Func().Id(p.Prefix+"ValueAt").Params(append(recv, jen.List(jen.Id("z"), jen.Id("g")).Add(ptr()))...).Id(s.Elem).Block(
+			x.Clone(),
+			jen.Id("v").Op(":=").Add(callee(s.Objective).Call(arg, g)),
+			scale.Clone(),
+			jen.For(jen.Id("i").Op(":=").Range().Id("g")).Block(jen.Id("g").Index(jen.Id("i")).Op("*=").Id("s").Index(jen.Id("i"))),
+			jen.Return(jen.Id("v")),
+		)
+		return
+	}
 	f.Commentf("%sValueAt is the objective at the kernels' z.", p.Prefix)
 	f.Func().Id(p.Prefix+"ValueAt").Params(append(recv, jen.Id("z").Add(ptr()))...).Id(s.Elem).Block(
 		x.Clone(),
@@ -386,7 +408,7 @@ func entryDoc(p *Plan) []string {
 		"",
 		fmt.Sprintf("Direction %s: %s.", p.Direction.Name, p.Direction.Summary),
 		fmt.Sprintf("Step rule %s: %s.", p.Rule.Name, p.Rule.Summary),
-		fmt.Sprintf("Derivative %s: %s.", p.Derivative.Name, p.Derivative.Summary),
+		derivativeLine(p),
 		fmt.Sprintf("Gradient test %s: %s.", p.Test.Name, p.Test.Math),
 	}
 	if p.Bounded {
@@ -423,6 +445,9 @@ func entryDoc(p *Plan) []string {
 	if cost := p.GradientCalls(); cost > 0 {
 		perGradient = fmt.Sprintf(", %d of them per gradient and %d per choice of the difference intervals (at the start and before each convergence is confirmed)", cost, p.Derivative.CalibrationCalls(p.Dim))
 	}
+	if p.Shape.Combined {
+		perGradient = fmt.Sprintf(", each giving the value and the gradient, %d of them for the curvature probes of a stall", p.Dim)
+	}
 	why := fmt.Sprintf("the evaluation cap; the iteration limit alone would allow %d", byIter)
 	if byIter < int(p.Value(rules.StopEvaluations)) {
 		why = fmt.Sprintf("the bound the iteration limit sets, below the evaluation cap of %d", int(p.Value(rules.StopEvaluations)))
@@ -431,6 +456,15 @@ func entryDoc(p *Plan) []string {
 		fmt.Sprintf("Worst case: %d objective calls%s (%s). It allocates nothing, uses no package state and never panics on its own: NaN or ±Inf from x0, the objective or the gradient ends the run with a status.", worst, perGradient, why),
 		"Check Status.Converged() before acting on X.")
 	return lines
+}
+
+// derivativeLine is the entry point's doc line on where the gradient
+// comes from: the derivative entry, or a combined objective itself.
+func derivativeLine(p *Plan) string {
+	if p.Shape.Combined {
+		return fmt.Sprintf("Derivative %s, from the objective itself: %s.", p.Derivative.Name, rules.Combined.Summary)
+	}
+	return fmt.Sprintf("Derivative %s: %s.", p.Derivative.Name, p.Derivative.Summary)
 }
 
 // emitTunables writes the constants the kernels read, each echoing the

@@ -271,17 +271,37 @@ func emitGradientCheck(f *jen.File, p *Plan, helper string, setup func() []jen.C
 	case ArgSlice:
 		valueArg = []jen.Code{jen.Id("x").Index(jen.Op(":"))}
 	}
-	switch s.Grad {
-	case GradScalar:
+	gradientName := s.Gradient
+	switch {
+	case s.Combined:
+		// A combined objective writes the gradient through g: value
+		// discards it, gradient discards the value.
+		var gArg jen.Code
+		switch s.Arg {
+		case ArgScalar:
+			gArg = jen.Op("&").Id("g").Index(jen.Lit(0))
+		case ArgSlice:
+			gArg = jen.Id("g").Index(jen.Op(":"))
+		default:
+			gArg = jen.Op("&").Id("g")
+		}
+		gradientName = "the gradient " + s.Objective + " writes"
+		gradBody = []jen.Code{recvPrefix(s.Objective).Call(append(append([]jen.Code(nil), valueArg...), gArg)...)}
+		valueArg = append(valueArg, gArg)
+	case s.Grad == GradScalar:
 		gradBody = []jen.Code{jen.Id("g").Index(jen.Lit(0)).Op("=").Add(recvPrefix(s.Gradient)).Call(jen.Id("x").Index(jen.Lit(0)))}
-	case GradPointer:
+	case s.Grad == GradPointer:
 		gradBody = []jen.Code{recvPrefix(s.Gradient).Call(jen.Op("&").Id("x"), jen.Op("&").Id("g"))}
-	case GradArray:
+	case s.Grad == GradArray:
 		gradBody = []jen.Code{jen.Id("g").Op("=").Add(recvPrefix(s.Gradient)).Call(jen.Id("x"))}
-	case GradSlice:
+	case s.Grad == GradSlice:
 		gradBody = []jen.Code{recvPrefix(s.Gradient).Call(jen.Id("x").Index(jen.Op(":")), jen.Id("g").Index(jen.Op(":")))}
 	}
 	vec := jen.Index(jen.Lit(s.Dim)).Id(s.Elem)
+	valueBody := []jen.Code{jen.Return(recvPrefix(s.Objective).Call(valueArg...))}
+	if s.Combined {
+		valueBody = []jen.Code{jen.Var().Id("g").Add(vec.Clone()), valueBody[0]}
+	}
 	var recvParam []jen.Code
 	var recvArg []jen.Code
 	if s.Receiver != "" {
@@ -356,9 +376,9 @@ func emitGradientCheck(f *jen.File, p *Plan, helper string, setup func() []jen.C
 		}
 		return jen.Id("x").Index(jen.Id("i")).Op("+=").Id(s.Elem).Call(jen.Float64().Call(jen.Id("k")).Op("*").Lit(0.01).Op("*").Float64().Call(jen.Id("i").Op("+").Lit(1)).Op("*").Id("sc").Index(jen.Id("i")))
 	}
-	f.Commentf("Test%sGradientMatchesDifferences compares %s with central differences, h = ∛u·max(1, |xᵢ|), at the start, two nearby points, three points along the first search direction −∇f (at 1%%, 10%% and 50%% of max(1, ‖x0‖∞)) and where the run from start ends, so that a gradient wrong only near the minimizer is caught too. It allows the truncation error as %s relative to max(1, |gᵢ|) (common practice) plus 100 times the rounding bound u·|f|/h (Nocedal & Wright 2006, §8.1). NaN or ±Inf fails at the start and its neighbours; points farther out where f is not finite lie outside the objective's domain and are skipped.%s%s", name, s.Gradient, tol, boxDoc, scaleDoc)
+	f.Commentf("Test%sGradientMatchesDifferences compares %s with central differences, h = ∛u·max(1, |xᵢ|), at the start, two nearby points, three points along the first search direction −∇f (at 1%%, 10%% and 50%% of max(1, ‖x0‖∞)) and where the run from start ends, so that a gradient wrong only near the minimizer is caught too. It allows the truncation error as %s relative to max(1, |gᵢ|) (common practice) plus 100 times the rounding bound u·|f|/h (Nocedal & Wright 2006, §8.1). NaN or ±Inf fails at the start and its neighbours; points farther out where f is not finite lie outside the objective's domain and are skipped.%s%s", name, gradientName, tol, boxDoc, scaleDoc)
 	f.Func().Id("Test" + name + "GradientMatchesDifferences").Params(jen.Id("t").Op("*").Qual("testing", "T")).Block(append(append(setup(), boxed...),
-		jen.Id("value").Op(":=").Func().Params(append(recvParam, jen.Id("x").Add(vec.Clone()))...).Id(s.Elem).Block(jen.Return(recvPrefix(s.Objective).Call(valueArg...))),
+		jen.Id("value").Op(":=").Func().Params(append(recvParam, jen.Id("x").Add(vec.Clone()))...).Id(s.Elem).Block(valueBody...),
 		jen.Id("gradient").Op(":=").Func().Params(append(recvParam, jen.Id("x").Add(vec.Clone()))...).Params(jen.Id("g").Add(vec.Clone())).Block(append(gradBody, jen.Return())...),
 		jen.Id("start").Op(":=").Add(inside(startVec)),
 		// points: the start and two neighbours, steps along −∇f(start), the run's end.

@@ -60,6 +60,20 @@ func CoilBoxGrad(x [3]float64) [3]float64 {
 	return [3]float64{g0, g1, g2}
 }
 
+// CoilBoxBoth is CoilBox as a combined objective: the value, with the
+// gradient written through g.
+func CoilBoxBoth(x *[3]float64, g *[3]float64) float64 {
+	guard("CoilBoxBoth", x[:], []float64{3e-4, -1e300, -1e300}, []float64{1e300, 2.5e5, 1e300})
+	g[0], g[1], g[2] = coilGrad(x[0], x[1], x[2])
+	return coil(x[0], x[1], x[2])
+}
+
+// GainBoth is Gain as a combined objective on a scalar.
+func GainBoth(k float64, g *float64) float64 {
+	*g = GainGrad(k)
+	return Gain(k)
+}
+
 // Coil32 is coil in float32, taken by pointer.
 func Coil32(x *[3]float32) float32 {
 	a, b, c := (x[0]-2e-3)/1e-3, (x[1]-3e5)/1e5, x[2]+7
@@ -269,6 +283,31 @@ start = [0.0, 0.0]
 scale = [1e-2, 1e3]
 [minimizer.expect]
 x = [0.03, -2500.0]
+tolerance = 1e-6
+
+[[minimizer]]
+name = "ScaledCombinedBox"
+objective = "CoilBoxBoth"
+derivative = "analytic"
+direction = "lbfgs"
+start = [1e-3, 4e5, 1.0]
+scale = [1e-3, 1e5, 1.0]
+[minimizer.bounds]
+lower = [3e-4, -inf, -inf]
+upper = [inf, 2.5e5, inf]
+[minimizer.expect]
+x = [2.125e-3, 2.5e5, -7.0]
+tolerance = 1e-6
+
+[[minimizer]]
+name = "ScaledCombinedScalar"
+objective = "GainBoth"
+derivative = "analytic"
+direction = "steepest"
+start = 1e4
+scale = 1e4
+[minimizer.expect]
+x = 4e4
 tolerance = 1e-6
 
 [[minimizer]]

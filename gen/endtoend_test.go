@@ -20,8 +20,9 @@ import (
 // TestEndToEnd builds a throwaway module in a temporary directory whose
 // objectives cover every accepted signature form (function, value-receiver
 // method, pointer-receiver method; scalar, array, pointer to array, slice;
-// float32 and float64), every analytic gradient form, every way to name an
-// instance, and every derivative source, direction and step rule. It
+// float32 and float64), every analytic gradient form, every combined
+// objective form, every way to name an instance, and every derivative
+// source, direction and step rule. It
 // generates the minimizers with Generate and Write, then checks the files
 // (header, no absolute paths, imports, gofmt), determinism and Stale, runs
 // go vet and go test (the generated tests assert convergence to the
@@ -318,7 +319,17 @@ func e2eCheckCoverage(t *testing.T, plans []*Plan) {
 		}
 		have["objective "+argNames[s.Arg]+" "+s.Elem+" "+kind] = true
 		grad := "-"
-		if p.Derivative == rules.Analytic {
+		switch {
+		case s.Combined:
+			grad = "combined"
+			have["combined "+argNames[s.Arg]+" "+s.Elem] = true
+			have["combined "+kind] = true
+			have["combined direction "+p.Direction.Name] = true
+			have["combined rule "+p.Rule.Name] = true
+			if p.Bounded {
+				have["combined bounds "+s.Elem] = true
+			}
+		case p.Derivative == rules.Analytic:
 			grad = gradNames[s.Grad]
 			have["gradient "+grad+" "+s.Elem+" "+map[bool]string{false: "func", true: "method"}[s.Receiver != ""]] = true
 		}
@@ -352,6 +363,9 @@ func e2eCheckCoverage(t *testing.T, plans []*Plan) {
 			}
 			if s.Receiver != "" {
 				have["scale method"] = true
+			}
+			if s.Combined {
+				have["scale combined "+argNames[s.Arg]] = true
 			}
 		}
 		for q := range m.Given {
@@ -423,7 +437,22 @@ func e2eCheckCoverage(t *testing.T, plans []*Plan) {
 			want = append(want, "scale "+d.Name+" "+src.Name)
 		}
 	}
-	want = append(want, "scale float64 scalar", "scale float32 scalar", "scale float64 array", "scale float32 pointer", "scale float64 pointer", "scale float64 slice", "scale bounds", "scale method")
+	want = append(want, "scale float64 scalar", "scale float32 scalar", "scale float64 array", "scale float32 pointer", "scale float64 pointer", "scale float64 slice", "scale bounds", "scale method", "scale combined scalar", "scale combined pointer")
+	// Combined objectives in every form and float type, as functions and
+	// methods on both receivers, with every direction and rule, on a box
+	// in both float types.
+	for _, form := range []string{"scalar", "array", "pointer", "slice"} {
+		for _, elem := range []string{"float32", "float64"} {
+			want = append(want, "combined "+form+" "+elem)
+		}
+	}
+	want = append(want, "combined func", "combined value", "combined pointer", "combined bounds float32", "combined bounds float64")
+	for _, e := range rules.Direction.Entries {
+		want = append(want, "combined direction "+e.Name)
+	}
+	for _, e := range rules.StepRule.Entries {
+		want = append(want, "combined rule "+e.Name)
+	}
 	var missing []string
 	for _, w := range want {
 		if !have[w] {
@@ -441,25 +470,28 @@ func e2eCheckCoverage(t *testing.T, plans []*Plan) {
 // the minimizer found it; methods read their receiver's shift A, so a test
 // run on the wrong receiver misses the expected point.
 
-var e2eSpecs = []string{"plain/plain.toml", "grad/grad.toml", "methods/methods.toml", "boxed/boxed.toml", "scaled/scaled.toml"}
+var e2eSpecs = []string{"plain/plain.toml", "grad/grad.toml", "methods/methods.toml", "boxed/boxed.toml", "scaled/scaled.toml", "combined/combined.toml"}
 
 // e2ePackages are the module's packages whose tests must pass.
-var e2ePackages = []string{"e2e/plain", "e2e/grad", "e2e/methods/recv", "e2e/boxed", "e2e/scaled"}
+var e2ePackages = []string{"e2e/plain", "e2e/grad", "e2e/methods/recv", "e2e/boxed", "e2e/scaled", "e2e/combined"}
 
 func e2eModule() map[string]string {
 	files := map[string]string{
-		"go.mod":                "module e2e\n\ngo 1.24\n",
-		"plain/plain.go":        e2ePlainGo,
-		"plain/plain.toml":      e2ePlainSpec,
-		"grad/grad.go":          e2eGradGo,
-		"grad/grad.toml":        e2eGradSpec,
-		"methods/methods.toml":  e2eMethodsSpec,
-		"boxed/boxed.go":        e2eBoxedGo,
-		"boxed/boxed.toml":      e2eBoxedSpec,
-		"boxed/boxed_test.go":   e2eBoxedTest,
-		"scaled/scaled.go":      e2eScaledGo,
-		"scaled/scaled.toml":    e2eScaledSpec,
-		"scaled/scaled_test.go": e2eScaledTest,
+		"go.mod":                    "module e2e\n\ngo 1.24\n",
+		"plain/plain.go":            e2ePlainGo,
+		"plain/plain.toml":          e2ePlainSpec,
+		"grad/grad.go":              e2eGradGo,
+		"grad/grad.toml":            e2eGradSpec,
+		"methods/methods.toml":      e2eMethodsSpec,
+		"boxed/boxed.go":            e2eBoxedGo,
+		"boxed/boxed.toml":          e2eBoxedSpec,
+		"boxed/boxed_test.go":       e2eBoxedTest,
+		"scaled/scaled.go":          e2eScaledGo,
+		"scaled/scaled.toml":        e2eScaledSpec,
+		"scaled/scaled_test.go":     e2eScaledTest,
+		"combined/combined.go":      e2eCombinedGo,
+		"combined/combined.toml":    e2eCombinedSpec,
+		"combined/combined_test.go": e2eCombinedTest,
 	}
 	var recv strings.Builder
 	recv.WriteString(e2eRecvHead)

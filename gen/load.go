@@ -45,7 +45,12 @@ type Shape struct {
 	Objective string // function or method name
 	Gradient  string // method or function name of the analytic gradient
 	Grad      GradForm
-	Instance  instance
+	// Combined says the objective returns its value and writes its
+	// gradient through a second parameter of its argument's form:
+	// func(x T, g *T) T, func(x [N]T, g *[N]T) T, func(x *[N]T, g *[N]T) T
+	// or func(x, g []T) T. It then has no separate gradient.
+	Combined bool
+	Instance instance
 }
 
 // instance says how the generated tests obtain a receiver.
@@ -234,7 +239,11 @@ func (lp *loadedPackage) position(p token.Pos) Pos {
 	return Pos{File: displayPath(position.Filename), Line: position.Line, Col: position.Column}
 }
 
-const acceptedObjectives = `accepted forms, T float32 or float64: func(x T) T, func(x [N]T) T, func(x *[N]T) T, func(x []T) T (with dim), each also as a method`
+const acceptedObjectives = `accepted forms, T float32 or float64: func(x T) T, func(x [N]T) T, func(x *[N]T) T, func(x []T) T (with dim), each also as a method; ` + combinedObjectives
+
+// combinedObjectives are the forms of an objective that writes its
+// gradient through g while computing its value.
+const combinedObjectives = `combined with the gradient written through g: func(x T, g *T) T, func(x [N]T, g *[N]T) T, func(x *[N]T, g *[N]T) T, func(x, g []T) T`
 
 const acceptedGradients = `accepted gradient forms: func(x T) T for scalar objectives; func(x *[N]T, g *[N]T), func(x [N]T) [N]T or func(x, g []T) for vectors; a method on the objective's receiver type when the objective is a method`
 
@@ -272,9 +281,7 @@ func (lp *loadedPackage) resolve(spec *Spec, m *Minimizer, probs *Problems) (Sha
 	if shape.Dim > 0 {
 		checkStackSize(m, shape, ix, probs)
 	}
-	if m.Derivative == rules.Analytic {
-		lp.resolveGradient(m, &shape, recvType, at("gradient"), probs)
-	}
+	lp.resolveDerivative(m, &shape, sig, recvType, at, ix, probs)
 	lp.resolveInstance(m, &shape, recvType, at, ix, probs)
 
 	start, scalar, ok := numbers(m.start)
@@ -574,9 +581,13 @@ func pointerTo(t types.Type) types.Type {
 }
 
 // objectiveShape matches the objective's signature against the accepted
-// forms and fills in the element type, form and dimension.
+// forms and fills in the element type, form and dimension, and whether it
+// is combined: a second parameter g through which it writes its gradient,
+// *T for a scalar, *[N]T for an array or a pointer to one, []T for a
+// slice.
 func (lp *loadedPackage) objectiveShape(sig *types.Signature, shape *Shape) bool {
-	if sig.Params().Len() != 1 || sig.Results().Len() != 1 || sig.Variadic() || sig.TypeParams().Len() > 0 {
+	n := sig.Params().Len()
+	if n < 1 || n > 2 || sig.Results().Len() != 1 || sig.Variadic() || sig.TypeParams().Len() > 0 {
 		return false
 	}
 	elem := floatKind(types.Unalias(sig.Results().At(0).Type()))
@@ -596,7 +607,44 @@ func (lp *loadedPackage) objectiveShape(sig *types.Signature, shape *Shape) bool
 	default:
 		return false
 	}
-	return true
+	if n == 1 {
+		return true
+	}
+	g := sig.Params().At(1).Type()
+	shape.Combined = true
+	switch shape.Arg {
+	case ArgScalar:
+		p := pointerTo(g)
+		return p != nil && floatKind(types.Unalias(p)) == elem
+	case ArgSlice:
+		return sliceOf(g, elem)
+	default:
+		p := pointerTo(g)
+		return p != nil && arrayOf(p, elem) == shape.Dim
+	}
+}
+
+// resolveDerivative checks the derivative source against the objective:
+// a combined objective brings its own gradient, so it takes derivative =
+// "analytic" without a gradient key; any other objective needs a gradient
+// key for "analytic", whose function resolveGradient then checks.
+func (lp *loadedPackage) resolveDerivative(m *Minimizer, shape *Shape, sig *types.Signature, recvType *types.Named, at func(string) Pos, ix *positions, probs *Problems) {
+	derivative := at("derivative")
+	if _, given := ix.values[m.keyPrefix+".derivative"]; !given {
+		derivative = at("objective") // the default, "central": the objective is what rules it out
+	}
+	switch {
+	case shape.Combined && m.Gradient != "":
+		probs.add(ix.key(m.keyPrefix+".gradient"), "objective %s writes its gradient through g (%s): remove the gradient key, derivative = \"analytic\" uses that gradient", m.Objective, signatureText(sig))
+	case shape.Combined && m.Derivative != rules.Analytic:
+		probs.add(derivative, "objective %s writes its gradient through g (%s): set derivative = \"analytic\", without a gradient key (derivative is %q, which would ignore it)", m.Objective, signatureText(sig), m.Derivative.Name)
+	case shape.Combined:
+		// its own gradient, taken through the objective's calls
+	case m.Derivative == rules.Analytic && m.Gradient == "":
+		probs.add(derivative, "derivative = \"analytic\" needs a gradient key naming the gradient function, or an objective that writes its gradient (%s)", combinedObjectives)
+	case m.Derivative == rules.Analytic:
+		lp.resolveGradient(m, shape, recvType, at("gradient"), probs)
+	}
 }
 
 // resolveGradient finds the analytic gradient and checks its form against

@@ -73,7 +73,9 @@ func (p *Plan) Switch(q *rules.Param) bool { return p.Value(q) != 0 }
 // cap, or the iteration bound when that is smaller.
 // With differences, the start adds a calibration and every iteration may
 // add one confirmation of the gradient test (a calibration and two
-// gradients).
+// gradients). A combined objective's gradient costs nothing beyond the
+// call that gives its value, but its run may settle once at a stall, with
+// one call per unknown for the curvature probes (settleCombined).
 func (p *Plan) WorstCase() (calls int, byIterations int) {
 	perIteration := p.Rule.IterationCalls(int(p.Value(rules.Trials)), p.GradientCalls())
 	calibration := p.Derivative.CalibrationCalls(p.Dim)
@@ -81,6 +83,9 @@ func (p *Plan) WorstCase() (calls int, byIterations int) {
 		perIteration += calibration + 2*p.GradientCalls()
 	}
 	bound := float64(1+calibration+p.GradientCalls()) + (p.Value(rules.StopIterations)+1)*float64(perIteration)
+	if p.Shape.Combined {
+		bound += float64(p.Dim)
+	}
 	byIterations = math.MaxInt
 	if bound < math.MaxInt32 {
 		byIterations = int(bound)
@@ -120,6 +125,15 @@ func (p *Plan) kernelChoice() kernelChoice {
 				pick[dispatcher] = alternative
 			}
 		}
+	}
+	// A combined objective's gradient comes with its value: its picks
+	// override the analytic entry's.
+	combined := rules.Combined.Off
+	if p.Shape.Combined {
+		combined = rules.Combined.On
+	}
+	for dispatcher, alternative := range combined {
+		pick[dispatcher] = alternative
 	}
 	provided := map[string]string{
 		"status": p.M.Name + "Status",

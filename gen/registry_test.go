@@ -78,6 +78,8 @@ func TestRegistryMatchesTemplates(t *testing.T) {
 	}
 	addPicks("bounds off", rules.Bounds.Off)
 	addPicks("bounds on", rules.Bounds.On)
+	addPicks("combined objective off", rules.Combined.Off)
+	addPicks("combined objective on", rules.Combined.On)
 	for _, q := range rules.Params() {
 		addPicks("switch "+q.Path()+" on", q.On)
 		addPicks("switch "+q.Path()+" off", q.Off)
@@ -195,5 +197,34 @@ func TestTunePoliciesWithBounds(t *testing.T) {
 	}
 	if refused == 0 || len(bounded) != len(open)-refused {
 		t.Errorf("%d policies with bounds, %d without, %d of which cannot take bounds", len(bounded), len(open), refused)
+	}
+}
+
+// A combined objective's worst case is the start's one call, the rule's
+// calls in each of iterations + 1 searches, a gradient costing nothing
+// more, and one probe per unknown at a stall (settleCombined; the kernel
+// test TestCombinedWorstCase holds runs to the same count).
+func TestCombinedWorstCase(t *testing.T) {
+	plans, err := Plans([]string{filepath.Join("..", "testdata", "golden", "shapes", "shapes.toml")})
+	if err != nil {
+		t.Fatal(err)
+	}
+	found := false
+	for _, p := range plans {
+		if !p.Shape.Combined {
+			continue
+		}
+		found = true
+		trials, iterations := int(p.Value(rules.Trials)), int(p.Value(rules.StopIterations))
+		want := 1 + (iterations+1)*p.Rule.IterationCalls(trials, 0) + p.Dim
+		if _, byIterations := p.WorstCase(); byIterations != want {
+			t.Errorf("%s: worst case %d by the iteration limit, want 1 + (%d + 1)·%d + %d = %d", p.M.Name, byIterations, iterations, p.Rule.IterationCalls(trials, 0), p.Dim, want)
+		}
+		if p.GradientCalls() != 0 {
+			t.Errorf("%s: a combined objective's gradient costs %d calls, want 0", p.M.Name, p.GradientCalls())
+		}
+	}
+	if !found {
+		t.Fatal("no golden minimizer has a combined objective")
 	}
 }

@@ -74,7 +74,11 @@ func ratio(measure, limit float64) float64 {
 // WriteTraceTable prints what the run was asked to do, one row per move
 // and the outcome.
 func WriteTraceTable(w io.Writer, p *Plan, res *TraceResult) error {
-	fmt.Fprintf(w, "%s: %s direction, %s step rule, %s gradient, from %s\n", p.M.Name, p.Direction.Name, p.Rule.Name, p.Derivative.Name, formatNumbers(p.M.Start))
+	source := p.Derivative.Name + " gradient"
+	if p.Shape.Combined {
+		source = "gradient with each value (combined objective)"
+	}
+	fmt.Fprintf(w, "%s: %s direction, %s step rule, %s, from %s\n", p.M.Name, p.Direction.Name, p.Rule.Name, source, formatNumbers(p.M.Start))
 	l := res.Limits
 	if res.Scale != nil {
 		fmt.Fprintf(w, "in the scaled unknowns zᵢ = xᵢ/sᵢ, s = %s: stops when the largest |sᵢ·∂f/∂xᵢ| ≤ %s or every |Δzᵢ| ≤ %s·(|zᵢ| + 1), after at most %d moves and %d objective calls\n\n",

@@ -58,6 +58,15 @@ func WriteRules(w io.Writer) {
 		fmt.Fprintf(w, "      ref: %s\n", r)
 	}
 	fmt.Fprintln(w)
+	c := rules.Combined
+	fmt.Fprintln(w, "combined objective: one that writes its gradient through g, with derivative = \"analytic\" and no gradient key")
+	fmt.Fprintln(w)
+	fmt.Fprintf(w, "  %s\n", c.Summary)
+	fmt.Fprintf(w, "      %s\n", c.Math)
+	for _, r := range c.References {
+		fmt.Fprintf(w, "      ref: %s\n", r)
+	}
+	fmt.Fprintln(w)
 	fmt.Fprintln(w, "stop: limits every minimizer reads ([minimizer.stop])")
 	fmt.Fprintln(w)
 	for _, p := range rules.Params() {

@@ -358,8 +358,6 @@ func (r *specReader) minimizer(table map[string]any, i int) *Minimizer {
 	switch {
 	case m.Derivative == nil:
 		// unknown derivative, already reported
-	case m.Derivative == rules.Analytic && !hasGradient && table["gradient"] == nil:
-		r.add(at("derivative"), "derivative = \"analytic\" needs a gradient key naming the gradient function")
 	case m.Derivative != rules.Analytic && table["gradient"] != nil:
 		r.add(r.ix.key(key+".gradient"), "gradient is only used with derivative = \"analytic\" (derivative is %q)", m.Derivative.Name)
 	case hasGradient && !validReference(gradient):

@@ -299,8 +299,16 @@ func specialize(c kernelChoice) (*specializedKernels, error) {
 		for _, d := range u.decls {
 			own := declName(d)
 			comments := cp.comments(commentsWithin(ks.fileOf(d), d)) // before renaming lengthens them
+			rw.notes = nil
 			copyDecl := rw.rewrite(cp.decl(d))
+			if rw.err != nil {
+				return nil, rw.err
+			}
 			rw.renameComments(comments, own)
+			if len(rw.notes) > 0 {
+				comments = append(comments, rw.notes...)
+				sort.SliceStable(comments, func(i, j int) bool { return comments[i].Pos() < comments[j].Pos() })
+			}
 			if err := printer.Fprint(&buf, ks.fset, &printer.CommentedNode{Node: copyDecl, Comments: comments}); err != nil {
 				return nil, err
 			}
@@ -341,7 +349,11 @@ type rewriter struct {
 	c        kernelChoice
 	newName  map[types.Object]string
 	usesMath bool
-	trials   bool // the declaration being rewritten is the line search, and trials are traced
+	trials   bool  // the declaration being rewritten is the line search, and trials are traced
+	err      error // a kernel call the objective's form cannot make (a thalweg bug)
+	// notes are comments the passes add to the declaration being
+	// rewritten, each at the end of the line it explains.
+	notes []*ast.CommentGroup
 }
 
 func (rw *rewriter) obj(id *ast.Ident) types.Object {
@@ -354,8 +366,11 @@ func (rw *rewriter) obj(id *ast.Ident) types.Object {
 // rewrite rewrites d in place, so d must be a copy of the shared kernels
 // (see kernelCopier), and returns it. The passes, in order:
 //
-//   - rewrite recv.objective(p) and recv.gradient(p, g) to calls of the
-//     user's functions in the form their signatures take;
+//   - rewrite recv.objective(p), recv.gradient(p, g) and
+//     recv.evaluate(p, g) to calls of the user's functions in the form
+//     their signatures take: evaluate is the objective's value call, to
+//     which a combined objective adds g; rewrite recv.keepGradient(g, h)
+//     to g = h for a combined objective and delete it otherwise;
 //   - rewrite T(x) to x when elem is float64 and x is already float64;
 //   - drop the recv parameter and argument when the objective is a plain
 //     function;
@@ -377,6 +392,17 @@ func (rw *rewriter) rewrite(d ast.Decl) ast.Decl {
 			if call, ok := n.X.(*ast.CallExpr); ok && rw.isRecvCall(call, "gradient") {
 				cur.Replace(rw.gradientCall(call))
 			}
+			if call, ok := n.X.(*ast.CallExpr); ok && rw.isRecvCall(call, "keepGradient") {
+				if s.Combined {
+					// rewrite recv.keepGradient(&g, &h) to g = h // …
+					to, from := deref(call.Args[0]), deref(call.Args[1])
+					cur.Replace(&ast.AssignStmt{Lhs: []ast.Expr{to}, Tok: token.ASSIGN, TokPos: call.Pos(), Rhs: []ast.Expr{from}})
+					note := fmt.Sprintf("// ∇f at the start, which %s wrote into %s with fx (%s is not read again)", s.Objective, types.ExprString(from), types.ExprString(from))
+					rw.notes = append(rw.notes, &ast.CommentGroup{List: []*ast.Comment{{Slash: call.End(), Text: note}}})
+				} else {
+					cur.Delete() // rewrite recv.keepGradient(…) to nothing
+				}
+			}
 			if call, ok := n.X.(*ast.CallExpr); ok && rw.isObserve(call) {
 				if rw.c.trace {
 					call.Fun = &ast.Ident{Name: rw.c.traceHook, NamePos: call.Fun.Pos()}
@@ -385,7 +411,7 @@ func (rw *rewriter) rewrite(d ast.Decl) ast.Decl {
 				}
 			}
 		case *ast.CallExpr:
-			if rw.isRecvCall(n, "objective") {
+			if rw.isRecvCall(n, "objective") || rw.isRecvCall(n, "evaluate") {
 				call := rw.objectiveCall(n)
 				if rw.trials {
 					// traceTrial(xt, f(xt)): the trial point, then its value.
@@ -516,31 +542,61 @@ func (rw *rewriter) callee(name string) ast.Expr {
 	return &ast.SelectorExpr{X: ast.NewIdent("recv"), Sel: ast.NewIdent(name)}
 }
 
-// objectiveCall rewrites recv.objective(p), p a *vec, to the user's form:
-// f(p[0]), f(*p), f(p) or f(p[:]).
+// objectiveCall rewrites recv.objective(p) and recv.evaluate(p, g), p
+// and g *vec, to the user's form: f(p[0]), f(*p), f(p) or f(p[:]) for an
+// objective of the value alone, which leaves g out; f(p[0], &g[0]),
+// f(*p, g), f(p, g) or f(p[:], g[:]) for a combined objective, which
+// writes its gradient into g. A combined objective has no call for its
+// value alone: recv.objective on it is a thalweg bug, reported.
 func (rw *rewriter) objectiveCall(call *ast.CallExpr) ast.Expr {
+	s := rw.c.shape
 	p := call.Args[0]
-	if rw.c.valueAt != "" {
-		return &ast.CallExpr{Fun: ast.NewIdent(rw.c.valueAt), Args: rw.adapterArgs(p), Lparen: call.Lparen, Rparen: call.Rparen}
+	if rw.c.valueAt != "" && (!s.Combined || len(call.Args) == 2) {
+		// scale: the glue's adapter converts z to x (and, for a combined
+		// objective, the gradient back); only a combined one takes g.
+		adapterArgs := call.Args[:1]
+		if s.Combined {
+			adapterArgs = call.Args
+		}
+		return &ast.CallExpr{Fun: ast.NewIdent(rw.c.valueAt), Args: rw.adapterArgs(adapterArgs...), Lparen: call.Lparen, Rparen: call.Rparen}
 	}
-	var arg ast.Expr
-	switch rw.c.shape.Arg {
+	var args []ast.Expr
+	switch s.Arg {
 	case ArgScalar:
-		arg = index0(p)
+		args = []ast.Expr{index0(p)}
 	case ArgArray:
-		arg = deref(p)
+		args = []ast.Expr{deref(p)}
 	case ArgPointer:
-		arg = p
+		args = []ast.Expr{p}
 	case ArgSlice:
-		arg = fullSlice(p)
+		args = []ast.Expr{fullSlice(p)}
 	}
-	return &ast.CallExpr{Fun: rw.callee(rw.c.shape.Objective), Args: []ast.Expr{arg}, Lparen: call.Lparen, Rparen: call.Rparen}
+	if s.Combined {
+		if len(call.Args) < 2 {
+			rw.err = fmt.Errorf("a kernel asks the combined objective %s for its value alone, which it cannot give (a thalweg bug)", s.Objective)
+			return call
+		}
+		g := call.Args[1]
+		switch s.Arg {
+		case ArgScalar:
+			args = append(args, &ast.UnaryExpr{Op: token.AND, X: index0(g)})
+		case ArgSlice:
+			args = append(args, fullSlice(g))
+		default:
+			args = append(args, g)
+		}
+	}
+	return &ast.CallExpr{Fun: rw.callee(s.Objective), Args: args, Lparen: call.Lparen, Rparen: call.Rparen}
 }
 
 // gradientCall rewrites the statement recv.gradient(p, g) to the user's
 // form: g[0] = grad(p[0]); grad(p, g); *g = grad(*p); grad(p[:], g[:]).
 func (rw *rewriter) gradientCall(call *ast.CallExpr) ast.Stmt {
 	p, g := call.Args[0], call.Args[1]
+	if rw.c.shape.Combined {
+		rw.err = fmt.Errorf("a kernel calls a separate gradient of the combined objective %s, which has none (a thalweg bug)", rw.c.shape.Objective)
+		return &ast.ExprStmt{X: call}
+	}
 	if rw.c.gradientAt != "" {
 		return &ast.ExprStmt{X: &ast.CallExpr{Fun: ast.NewIdent(rw.c.gradientAt), Args: rw.adapterArgs(p, g), Lparen: call.Lparen, Rparen: call.Rparen}}
 	}

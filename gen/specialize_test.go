@@ -52,7 +52,7 @@ func TestSpecializedNamesAreHygienic(t *testing.T) {
 			return true
 		})
 		// The observe hook is deleted, the stand-in selectors never copied.
-		for _, word := range []string{"observe(", "stepRule", "directionKind", "derivativeSource", "backtrackKind", "receiver"} {
+		for _, word := range []string{"observe(", "stepRule", "directionKind", "derivativeSource", "backtrackKind", "receiver", "keepGradient", "evaluate("} {
 			if bytes.Contains(buf.Bytes(), []byte(word)) {
 				t.Errorf("%s: generated code mentions %q", p.M.Name, word)
 			}
@@ -85,4 +85,29 @@ func TestSpecializedCommentsSurvive(t *testing.T) {
 			}
 		}
 	}
+}
+
+// A combined objective has no call for its value alone and no separate
+// gradient: a kernel that asked for either (here the analytic gradient's
+// and the forward differences' alternatives, which no plan picks for it)
+// is refused with an error, never written.
+func TestCombinedRefusesValueOnlyAndGradientCalls(t *testing.T) {
+	plans, err := Plans([]string{filepath.Join("..", "testdata", "golden", "shapes", "shapes.toml")})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, p := range plans {
+		if !p.Shape.Combined {
+			continue
+		}
+		for dispatcher, alternative := range map[string]string{"derivative": "analyticGradient", "calibrate": "calibrateForward"} {
+			c := p.kernelChoice()
+			c.pick[dispatcher] = alternative
+			if _, err := specialize(c); err == nil || !strings.Contains(err.Error(), "thalweg bug") {
+				t.Errorf("%s with %s picked for %s: error %v, want a thalweg bug", p.M.Name, alternative, dispatcher, err)
+			}
+		}
+		return
+	}
+	t.Fatal("no golden minimizer has a combined objective")
 }

@@ -15,9 +15,10 @@ import (
 // "Type.Method") of the Go package in dir: every key present, with its
 // default and a one-line comment, ready for `thalweg gen`. A gradient named
 // like the objective plus "Grad" or "Gradient" that fits is proposed as
-// the analytic one, and a New<Type> function as the instance. A start,
-// when given, is written as the spec's start, and scale is proposed from
-// it: |startᵢ| where that is nonzero, else 1.
+// the analytic one (a combined objective, which writes its own, gets
+// derivative = "analytic" without one), and a New<Type> function as the
+// instance. A start, when given, is written as the spec's start, and scale
+// is proposed from it: |startᵢ| where that is nonzero, else 1.
 func WriteStarter(w io.Writer, dir, ref string, start []float64) error {
 	var probs Problems
 	at := Pos{File: displayPath(dir), Line: 1, Col: 1}
@@ -75,10 +76,14 @@ func WriteStarter(w io.Writer, dir, ref string, start []float64) error {
 		return Problems{{lp.position(fn.Pos()), fmt.Sprintf("objective %s has %d unknowns: no direction's state fits in the %d bytes Go keeps on the stack, so no minimizer could avoid allocating", ref, dim, maxStackVariable)}}
 	}
 
-	// An analytic gradient named after the objective, when one fits.
+	// An analytic gradient named after the objective, when one fits; a
+	// combined objective brings its own.
 	m := &Minimizer{Derivative: rules.Analytic}
 	gradient := ""
 	for _, suffix := range []string{"Grad", "Gradient"} {
+		if shape.Combined {
+			break
+		}
 		m.Gradient = fn.Name() + suffix
 		if recvType != nil {
 			m.Gradient = recvType.Obj().Name() + "." + m.Gradient
@@ -123,7 +128,7 @@ func WriteStarter(w io.Writer, dir, ref string, start []float64) error {
 	kv("name", fmt.Sprintf("%q", name), "exported name of the generated minimizer")
 	kv("objective", fmt.Sprintf("%q", ref), signatureText(sig))
 	chosen := &Minimizer{Derivative: rules.Derivative.DefaultEntry(), Direction: direction, Rule: direction.DefaultRule, Test: rules.GradientTest.DefaultEntry()}
-	if gradient != "" {
+	if gradient != "" || shape.Combined {
 		chosen.Derivative = rules.Analytic
 	}
 	ctx := resolveContext(chosen, shape.Elem, dim)
@@ -148,10 +153,13 @@ func WriteStarter(w io.Writer, dir, ref string, start []float64) error {
 			kv("# "+p.Key, rules.FormatValue(p, ctx.DefaultValue(p)), readersOf(p)+" only, "+p.Range()+": "+p.Doc)
 		}
 	}
-	if gradient != "" {
+	switch {
+	case shape.Combined:
+		choiceLine(rules.Derivative, rules.Analytic, "the objective writes its gradient through g: no gradient key")
+	case gradient != "":
 		choiceLine(rules.Derivative, rules.Analytic, "")
 		kv("gradient", fmt.Sprintf("%q", gradient), "found beside the objective; the generated test checks it")
-	} else {
+	default:
 		choiceLine(rules.Derivative, chosen.Derivative, `"analytic" needs a gradient key`)
 	}
 	note := ""

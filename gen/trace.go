@@ -253,6 +253,18 @@ func emitTraceGrid(f *jen.File, p *Plan, recvParam []jen.Code) {
 	default:
 		arg = jen.Id("x").Index(jen.Op(":"))
 	}
+	args := []jen.Code{arg}
+	var scratch []jen.Code
+	if s.Combined {
+		// A combined objective writes its gradient too, here into a
+		// scratch g that the grid ignores.
+		scratch = []jen.Code{jen.Var().Id("g").Index(jen.Lit(2)).Id(s.Elem)}
+		if s.Arg == ArgSlice {
+			args = append(args, jen.Id("g").Index(jen.Op(":")))
+		} else {
+			args = append(args, jen.Op("&").Id("g"))
+		}
+	}
 	objective := jen.Id(s.Objective)
 	if s.Receiver != "" {
 		objective = jen.Id("recv").Dot(s.Objective)
@@ -272,12 +284,12 @@ func emitTraceGrid(f *jen.File, p *Plan, recvParam []jen.Code) {
 		jen.Qual("fmt", "Printf").Call(jen.Lit("thalweg-grid\t%d\t%v\t%v\t%v\t%v\n"), jen.Id("n"), jen.Id("lo").Index(jen.Lit(0)), jen.Id("hi").Index(jen.Lit(0)), jen.Id("lo").Index(jen.Lit(1)), jen.Id("hi").Index(jen.Lit(1))),
 		jen.For(jen.Id("j").Op(":=").Lit(0), jen.Id("j").Op("<=").Id("n"), jen.Id("j").Op("++")).Block(
 			jen.Id("row").Op(":=").Index().Byte().Call(jen.Lit("thalweg-gridrow")),
-			jen.For(jen.Id("i").Op(":=").Lit(0), jen.Id("i").Op("<=").Id("n"), jen.Id("i").Op("++")).Block(
+			jen.For(jen.Id("i").Op(":=").Lit(0), jen.Id("i").Op("<=").Id("n"), jen.Id("i").Op("++")).Block(append(scratch,
 				jen.Var().Id("x").Index(jen.Lit(2)).Id(s.Elem),
 				jen.Id("x").Index(jen.Lit(0)).Op("=").Id(s.Elem).Call(jen.Id("lo").Index(jen.Lit(0)).Op("+").Parens(jen.Id("hi").Index(jen.Lit(0)).Op("-").Id("lo").Index(jen.Lit(0))).Op("*").Float64().Call(jen.Id("i")).Op("/").Id("n")),
 				jen.Id("x").Index(jen.Lit(1)).Op("=").Id(s.Elem).Call(jen.Id("lo").Index(jen.Lit(1)).Op("+").Parens(jen.Id("hi").Index(jen.Lit(1)).Op("-").Id("lo").Index(jen.Lit(1))).Op("*").Float64().Call(jen.Id("j")).Op("/").Id("n")),
-				jen.Id("row").Op("=").Qual("strconv", "AppendFloat").Call(jen.Append(jen.Id("row"), jen.LitRune('\t')), jen.Float64().Call(objective.Clone().Call(arg)), jen.LitRune('g'), jen.Lit(-1), jen.Lit(64)),
-			),
+				jen.Id("row").Op("=").Qual("strconv", "AppendFloat").Call(jen.Append(jen.Id("row"), jen.LitRune('\t')), jen.Float64().Call(objective.Clone().Call(args...)), jen.LitRune('g'), jen.Lit(-1), jen.Lit(64)),
+			)...),
 			jen.Qual("fmt", "Println").Call(jen.String().Call(jen.Id("row"))),
 		),
 	)

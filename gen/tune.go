@@ -254,6 +254,7 @@ func WriteTuneTable(w io.Writer, p *Plan, rows []TuneRow) error {
 	fmt.Fprintln(tw, "policy\tstatus\tobjective calls\titerations\tfinal f\ttime per solve\t")
 	// With an analytic gradient the objective calls leave out gradient
 	// calls: Wolfe rules make one at most trials, backtracking one per step.
+	// A combined objective's calls include its gradients.
 	for _, r := range rows {
 		var marks []string
 		if r.Recommended {
@@ -277,7 +278,10 @@ func WriteTuneTable(w io.Writer, p *Plan, rows []TuneRow) error {
 		return err
 	}
 	note := ""
-	if p.Derivative == rules.Analytic {
+	switch {
+	case p.Shape.Combined:
+		note = " Each objective call gives the value and the gradient together, so the counts compare the policies fully."
+	case p.Derivative == rules.Analytic:
 		note = " Objective calls leave out gradient calls, which the Wolfe rules make at more trials than backtracking does; the time includes both."
 	}
 	_, err := fmt.Fprintln(w, "\nRanked by convergence (the gradient test first), then objective calls, then time; times are for this machine, so validate on the target."+note)

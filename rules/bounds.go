@@ -1,14 +1,16 @@
 package rules
 
 // Feature is a part of a spec that is there or not, such as
-// [minimizer.bounds]: the template alternatives it picks either way.
+// [minimizer.bounds] or a combined objective: the template alternatives
+// it picks either way.
 type Feature struct {
-	Table      string // the spec table that turns it on
+	Table      string // the spec table that turns it on; "" when the objective's signature does (Combined)
 	Summary    string
 	Math       string
 	References []string
-	// Off and On are the alternatives picked without and with it; an
-	// entry's OnPicks (Entry.BoundedPicks for bounds) override On.
+	// Off and On are the alternatives picked without and with it. For
+	// bounds an entry's BoundedPicks override On; a combined objective's
+	// On overrides the derivative entry's picks.
 	Off, On Picks
 }
 

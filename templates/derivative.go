@@ -20,10 +20,12 @@ type differences struct {
 // variables fixed by equal bounds. It stands in for the source the spec
 // chose; gen keeps only that one under this name.
 func derivative(recv *receiver, x *vec, fx elem, g *vec, diffs *differences) int {
-	switch derivativeSource {
-	case sourceForward:
+	switch {
+	case combined:
+		return givenGradient(recv, x, fx, g, diffs)
+	case derivativeSource == sourceForward:
 		return forwardDifference(recv, x, fx, g, diffs)
-	case sourceCentral:
+	case derivativeSource == sourceCentral:
 		return centralDifference(recv, x, fx, g, diffs)
 	default:
 		return analyticGradient(recv, x, fx, g, diffs)
@@ -62,6 +64,13 @@ func gradientError(x *vec, fx elem, g, e *vec, diffs *differences) {
 // analyticGradient calls the user's gradient; it costs no objective calls.
 func analyticGradient(recv *receiver, x *vec, fx elem, g *vec, diffs *differences) int {
 	recv.gradient(x, g)
+	return 0
+}
+
+// givenGradient: a combined objective wrote ∇f(x) into g in the call
+// that computed fx (the start's, or the line-search trial's at x), so
+// there is nothing to compute and no call to make.
+func givenGradient(recv *receiver, x *vec, fx elem, g *vec, diffs *differences) int {
 	return 0
 }
 

@@ -10,10 +10,15 @@
 // minimizer's prefix.
 //
 // Rules for authors of this package, which gen relies on:
-//   - the objective is called only as recv.objective(x) and the gradient
-//     only as the statement recv.gradient(x, g), both with *vec operands;
+//   - the objective is called only as recv.objective(x) for its value
+//     alone (differences), as recv.evaluate(x, g) where its gradient may
+//     be wanted too (a combined objective writes it into g in the same
+//     call), and the gradient only as the statement recv.gradient(x, g),
+//     all with *vec operands; recv.keepGradient(g, h) is a statement
+//     that gen turns into g = h for a combined objective and deletes
+//     otherwise;
 //   - a dispatcher (derivative, direction, lineSearch, acceptable,
-//     backtrackTrial, curvatureMet) switches on a selector in params.go, and every
+//     backtrackTrial, curvatureMet, settle, …) switches on a selector in params.go, and every
 //     alternative it names has the same signature;
 //   - conversions between elem and float64 are written out for float32's
 //     sake; gen drops them when elem is float64;

@@ -31,6 +31,7 @@ var (
 	gradientTest     = testRelative
 	derivativeCost   = 0     // objective calls per gradient, set with derivativeSource
 	boxed            = false // whether the spec has bounds
+	combined         = false // whether the objective gives its gradient with its value
 )
 
 // Alternatives for the selectors above.

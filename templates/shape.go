@@ -17,18 +17,55 @@ type vec = [dim]elem
 type receiver struct {
 	valueFunc    func(x *vec) elem
 	gradientFunc func(x, g *vec)
+	// combinedFunc, when set, is a combined objective: it returns f(x)
+	// and writes ∇f(x) into g in the same call. The kernels then call
+	// only evaluate on it.
+	combinedFunc func(x, g *vec) elem
 	calls        int // objective calls, counted independently of the kernels
+	valueOnly    int // calls of objective, which a combined objective must never see
+	gradients    int // calls of gradient, likewise
 }
 
-// objective stands in for the user's objective.
+// objective stands in for the user's objective, called for its value
+// alone (finite differences and their calibration).
 func (r *receiver) objective(x *vec) elem {
 	r.calls++
+	r.valueOnly++
 	return r.valueFunc(x)
 }
 
 // gradient stands in for the user's analytic gradient.
 func (r *receiver) gradient(x, g *vec) {
+	r.gradients++
 	r.gradientFunc(x, g)
+}
+
+// evaluate stands in for the objective called where the kernel may want
+// the gradient too: the start, every line-search trial, the probes of a
+// stall. It returns f(x); a combined objective also writes ∇f(x) into g
+// in the same, single call, while any other objective leaves g alone,
+// its gradient coming from the derivative source instead. gen rewrites
+// it to the user's call in its form: f(x) for an objective of the value
+// alone, f(x, g) for a combined one.
+func (r *receiver) evaluate(x, g *vec) elem {
+	if r.combinedFunc == nil {
+		return r.objective(x)
+	}
+	r.calls++
+	return r.combinedFunc(x, g)
+}
+
+// keepGradient stands in for taking the start's gradient, which a
+// combined objective wrote into given when evaluate computed the start's
+// value (given is then x0's room, free once x holds the start: minimize
+// declares g only later), into g. gen writes g = given for a combined
+// objective and deletes the statement otherwise; each call is followed
+// by observe and a blank line, so that deleting both leaves the layout
+// intact.
+func (r *receiver) keepGradient(g, given *vec) {
+	if r.combinedFunc != nil {
+		*g = *given
+	}
 }
 
 // observe stands in for the hook of `thalweg trace`, called with the state

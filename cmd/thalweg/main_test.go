@@ -489,6 +489,11 @@ func TestVersionAndRules(t *testing.T) {
 			t.Errorf("rules output has no entry for %q", name)
 		}
 	}
+	for _, feature := range []*rules.Feature{rules.Bounds, rules.Combined} {
+		if !strings.Contains(stdout, feature.Summary) || !strings.Contains(stdout, feature.Math) {
+			t.Errorf("rules output lacks a feature: %q", feature.Summary)
+		}
+	}
 }
 
 func containsLine(text, line string) bool {
@@ -782,6 +787,62 @@ func TestTune(t *testing.T) {
 		if strings.HasPrefix(r, "bfgs + armijo ") && !strings.HasPrefix(r, "bfgs + armijo (") && !strings.Contains(r, "the spec's choice") {
 			t.Errorf("the spec's bfgs + armijo row is not marked: %q", r)
 		}
+	}
+}
+
+// A combined objective, which returns its value and writes its gradient
+// through g, goes through every command: init proposes derivative =
+// "analytic" without a gradient key, gen writes a minimizer whose tests
+// pass, trace accounts for every call with no column for differences,
+// and tune ranks every policy with it.
+func TestCombinedObjective(t *testing.T) {
+	quickstartModule(t)
+	writeFile(t, "both.go", `package quickstart
+
+// CalibrationBoth is CalibrationError and its gradient in one call.
+func CalibrationBoth(p, g *[2]float64) float64 {
+	var sum float64
+	g[0], g[1] = 0, 0
+	for i, raw := range rawReadings {
+		r := p[0]*raw + p[1] - refSpeeds[i]
+		sum += r * r
+		g[0] += 2 * r * raw
+		g[1] += 2 * r
+	}
+	return sum
+}
+`)
+	if code, _, stderr := thalweg("init", "CalibrationBoth"); code != 0 {
+		t.Fatalf("init exited %d:\n%s", code, stderr)
+	}
+	data, err := os.ReadFile("calibration_both.toml")
+	if err != nil {
+		t.Fatal(err)
+	}
+	spec := string(data)
+	if !strings.Contains(spec, `derivative = "analytic"`) || !strings.Contains(spec, "the objective writes its gradient through g") || strings.Contains(spec, `gradient = "`) {
+		t.Errorf("the starter spec for a combined objective does not ask for derivative = \"analytic\" without a gradient key:\n%s", spec)
+	}
+	writeFile(t, "calibration_both.toml", strings.Replace(spec, "[nan, nan]", "[1.0, 0.0]", 1))
+	if code, _, stderr := thalweg("gen", "calibration_both.toml"); code != 0 {
+		t.Fatalf("gen exited %d:\n%s", code, stderr)
+	}
+	code, stdout, stderr := thalweg("trace", "calibration_both.toml")
+	if code != 0 || !strings.Contains(stdout, "gradient with each value (combined objective)") || !strings.Contains(stdout, "gradient small (converged) after") || strings.Contains(stdout, "difference calls") {
+		t.Fatalf("trace exited %d, or did not converge, or shows difference calls:\n%s%s", code, stdout, stderr)
+	}
+	code, stdout, stderr = thalweg("tune", "calibration_both.toml")
+	if code != 0 {
+		t.Fatalf("tune exited %d:\n%s%s", code, stdout, stderr)
+	}
+	var rows []string
+	for _, line := range strings.Split(stdout, "\n") {
+		if strings.Contains(line, " + ") {
+			rows = append(rows, line)
+		}
+	}
+	if len(rows) != len(gen.TunePolicies(false)) || !strings.Contains(rows[0], "← recommended") || !strings.Contains(stdout, "Each objective call gives the value and the gradient together") {
+		t.Errorf("tune printed %d rows for %d policies, or no recommendation, or not the note on combined calls:\n%s", len(rows), len(gen.TunePolicies(false)), stdout)
 	}
 }
 

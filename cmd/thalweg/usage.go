@@ -78,10 +78,11 @@ SPEC, no longer produced)". Exit status: 0 when nothing is to be done,
 		},
 		notes: `The starter spec has every key with its default and a one-line comment;
 a gradient named <Objective>Grad or <Objective>Gradient that fits is
-proposed as the analytic one, and New<Type> as the instance. Without
---start, start is written as nan, which gen refuses until you replace it;
-with --start, scale is proposed as |start| where that is nonzero (1
-elsewhere). init never overwrites a file.`,
+proposed as the analytic one (an objective that writes its gradient
+through g gets derivative = "analytic" without one), and New<Type> as
+the instance. Without --start, start is written as nan, which gen
+refuses until you replace it; with --start, scale is proposed as |start|
+where that is nonzero (1 elsewhere). init never overwrites a file.`,
 		run: runInit,
 	}, {
 		name:     "tune",

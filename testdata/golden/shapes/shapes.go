@@ -38,3 +38,11 @@ func Plate(x *[2]float32) float32 { return x[0]*x[0] + 2*x[1]*x[1] }
 
 // PlateGradient is Plate's gradient.
 func PlateGradient(x, g *[2]float32) { g[0], g[1] = 2*x[0], 4*x[1] }
+
+// Cost is Depth and its gradient in one call, which shares the shifted
+// coordinates between them.
+func (v *Valley) Cost(x, g *[2]float64) float64 {
+	a, b := x[0]-v.Shift[0], x[1]-v.Shift[1]
+	g[0], g[1] = 2*a, 8*b
+	return a*a + 4*b*b
+}
