@@ -202,6 +202,7 @@ type specializedKernels struct {
 	uses      map[string]bool // provided names the kernels reference
 	usesMath  bool
 	entryName string // the generated name of minimize
+	stateName string // the generated name of descent, the resumable run
 }
 
 // Stand-ins of the templates that gen never copies: gen replaces them or
@@ -275,6 +276,7 @@ func specialize(c kernelChoice) (*specializedKernels, error) {
 	newName[root] = c.prefix + "Minimize"
 	out.entryName = newName[root]
 	visit(ks.units["minimize"])
+	out.stateName = newName[ks.pkg.Scope().Lookup("descent")]
 	if len(unpicked) > 0 {
 		return nil, fmt.Errorf("no registry entry picks an alternative for the templates' dispatcher(s) %s (a thalweg bug)", strings.Join(unpicked, ", "))
 	}

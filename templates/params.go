@@ -30,6 +30,8 @@ var (
 	backtrackKind    = backtrackShrink
 	gradientTest     = testRelative
 	derivativeCost   = 0     // objective calls per gradient, set with derivativeSource
+	calibrationCost  = 0     // objective calls of choosing the difference intervals, set with derivativeSource
+	iterationCalls   = 40    // most objective calls of a line search and the gradient at its step, set with stepRule
 	boxed            = false // whether the spec has bounds
 )
 

@@ -58,6 +58,7 @@ const (
 	statusNonFiniteGradient
 	statusNoDecrease
 	statusDiverged
+	statusRunning
 )
 
 // limits stands in for the spec's run-time stop limits.
