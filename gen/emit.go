@@ -36,6 +36,7 @@ func emitMinimizer(w io.Writer, p *Plan, choice kernelChoice) error {
 	emitTypes(f, p)
 	emitBox(f, p)
 	emitEntry(f, p, kernels.entryName)
+	emitSolver(f, p, kernels.stateName)
 	emitTunables(f, p, kernels.uses)
 	var buf bytes.Buffer
 	if err := f.Render(&buf); err != nil {

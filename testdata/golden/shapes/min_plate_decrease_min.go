@@ -124,6 +124,74 @@ func MinPlateDecreaseWithLimits(x0 [2]float32, limits MinPlateDecreaseLimits) Mi
 	}
 }
 
+// MinPlateDecreaseTickMinimum is the smallest call budget with which every MinPlateDecreaseSolver.Advance progresses: the largest worst case of one stage of a run (the start 13 calls, an iteration 25, confirming a difference gradient 16).
+const MinPlateDecreaseTickMinimum = 25
+
+// MinPlateDecreaseSolver is a run of MinPlateDecrease that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (MinPlateDecreaseDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 13 calls, an iteration 25, confirming a difference gradient 16. A budget of at least MinPlateDecreaseTickMinimum = 25 progresses at every Advance; a smaller one may make no call. Advancing until the status is not MinPlateDecreaseRunning ends exactly as MinPlateDecreaseWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient and the difference intervals kept from earlier ticks refer to it. When the receiver's data changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 2 unknowns of float32 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): MinPlateDecrease and MinPlateDecreaseWithLimits use at most 1856 bytes, the run's state included; Advance at most 1152 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 176 bytes.
+//
+// While Status is MinPlateDecreaseRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type MinPlateDecreaseSolver struct {
+	run       minPlateDecreaseDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    MinPlateDecreaseLimits  // the limits of the runs; MinPlateDecreaseDefaultLimits() until SetLimits
+	ownLimits bool                    // whether SetLimits has set limits
+	started   bool                    // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *MinPlateDecreaseSolver) SetLimits(limits MinPlateDecreaseLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *MinPlateDecreaseSolver) Start(x0 [2]float32) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (steepest descent remembers nothing), a warm start: after the objective changed a little, as when the receiver's data tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X and chooses the difference intervals again, and the counts and limits start over.
+func (s *MinPlateDecreaseSolver) StartFrom(from MinPlateDecreaseResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (steepest descent remembers nothing); the run goes on from its point, next with a steepest-descent step.
+func (s *MinPlateDecreaseSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *MinPlateDecreaseSolver) begin(x0 [2]float32) {
+	if !s.ownLimits {
+		s.limits = MinPlateDecreaseDefaultLimits()
+	}
+	s.run.prepare(x0, s.limits, minPlateDecreaseBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status MinPlateDecreaseRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See MinPlateDecreaseSolver for the budget rule and what advancing assumes of the objective.
+func (s *MinPlateDecreaseSolver) Advance(budget int) MinPlateDecreaseResult {
+	if !s.started {
+		var x0 [2]float32
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
+	return MinPlateDecreaseResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x,
+	}
+}
+
 // Tunables of MinPlateDecrease from shapes.toml; the kernels below read them.
 const (
 	minPlateDecreaseStepInitial     = 1.0                   // step.initial
