@@ -56,7 +56,7 @@ func emitSolver(f *jen.File, p *Plan, state string) {
 		jen.Id("s").Dot("run").Dot("forget").Call(),
 	)
 
-	f.Commentf("StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (%s), a warm start: after the objective changed a little, as when the receiver's data tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X%s, and the counts and limits start over.", memoryOf(p), calibrates(p))
+	f.Commentf("StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (%s), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X%s, and the counts and limits start over.", memoryOf(p), calibrates(p))
 	f.Func().Params(self()).Id("StartFrom").Params(jen.Id("from").Id(name + "Result")).Block(
 		jen.Id("s").Dot("begin").Call(jen.Id("from").Dot("X")),
 	)
@@ -145,10 +145,87 @@ func solverDoc(p *Plan) []string {
 		"",
 		fmt.Sprintf("Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: %s. A budget of at least %sTickMinimum = %d progresses at every Advance; a smaller one may make no call. Advancing until the status is not %sRunning ends exactly as %sWithLimits does with the same limits, with the same calls, whatever the budgets.", stageCosts(p), name, p.TickMinimum(), name, name),
 		"",
-		fmt.Sprintf("Advancing assumes the objective stays the same function throughout a run: f(x), the gradient%s kept from earlier ticks refer to it. When the receiver's data changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.", map[bool]string{true: " and the difference intervals", false: ""}[p.SettleCalls() > 0]),
+		fmt.Sprintf("Advancing assumes the objective stays the same function throughout a run: f(x), the gradient%s kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.", map[bool]string{true: " and the difference intervals", false: ""}[p.SettleCalls() > 0]),
 		"",
 		stackDoc(p),
 		"",
 		fmt.Sprintf("While Status is %sRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.", name),
 	}
+}
+
+// emitSolverTests writes the solver's generated tests:
+//
+//	func TestNAMESolverTicks(t *testing.T) { … }
+//	func TestNAMESolverAllocatesNothing(t *testing.T) { … }
+//	func prefixTestSameResult(a, b NAMEResult) bool { … }
+func emitSolverTests(f *jen.File, p *Plan, helper string, setup func() []jen.Code) {
+	name := p.M.Name
+	same := helper + "SameResult"
+	advance := func(budget jen.Code) *jen.Statement {
+		var args []jen.Code
+		if p.Shape.Receiver != "" {
+			args = append(args, jen.Id("recv"))
+		}
+		return jen.Id("s").Dot("Advance").Call(append(args, budget)...)
+	}
+	start := jen.Id(helper + "Start").Call()
+	whole := []jen.Code{jen.Id(helper + "Start").Call()}
+	if p.Shape.Receiver != "" {
+		whole = append([]jen.Code{jen.Id("recv")}, whole...)
+	}
+
+	f.Commentf("Test%sSolverTicks advances a %sSolver from the spec's start with budgets of %sTickMinimum, one more, twice and seven times it per tick, and checks that no Advance reports more objective calls than its budget, that each one that does not end the run makes calls, and that the run ends exactly where %s's does (same X, F, counts and status); and that a budget of 0 makes no call.", name, name, name, name)
+	f.Func().Id("Test" + name + "SolverTicks").Params(jen.Id("t").Op("*").Qual("testing", "T")).Block(append(setup(),
+		jen.Id("want").Op(":=").Id(name).Call(whole...),
+		jen.For(jen.List(jen.Id("_"), jen.Id("budget")).Op(":=").Range().Index().Int().Values(
+			jen.Id(name+"TickMinimum"), jen.Id(name+"TickMinimum").Op("+").Lit(1), jen.Lit(2).Op("*").Id(name+"TickMinimum"), jen.Lit(7).Op("*").Id(name+"TickMinimum"),
+		)).Block(
+			jen.Var().Id("s").Id(name+"Solver"),
+			jen.Id("s").Dot("Start").Call(start.Clone()),
+			jen.Id("spent").Op(":=").Lit(0),
+			jen.For(jen.Id("tick").Op(":=").Lit(1), jen.Empty(), jen.Id("tick").Op("++")).Block(
+				jen.Id("r").Op(":=").Add(advance(jen.Id("budget"))),
+				jen.If(jen.Id("r").Dot("Evaluations").Op("-").Id("spent").Op(">").Id("budget")).Block(
+					jen.Id("t").Dot("Fatalf").Call(jen.Lit("budget %d, tick %d: %d objective calls"), jen.Id("budget"), jen.Id("tick"), jen.Id("r").Dot("Evaluations").Op("-").Id("spent")),
+				),
+				jen.If(jen.Id("r").Dot("Status").Op("!=").Id(name+"Running")).Block(
+					jen.If(jen.Op("!").Id(same).Call(jen.Id("r"), jen.Id("want"))).Block(
+						jen.Id("t").Dot("Fatalf").Call(jen.Lit("budget %d: the ticks ended with %+v, the whole run with %+v"), jen.Id("budget"), jen.Id("r"), jen.Id("want")),
+					),
+					jen.Break(),
+				),
+				jen.If(jen.Id("r").Dot("Evaluations").Op("==").Id("spent")).Block(
+					jen.Id("t").Dot("Fatalf").Call(jen.Lit("budget %d, tick %d: no progress"), jen.Id("budget"), jen.Id("tick")),
+				),
+				jen.Id("spent").Op("=").Id("r").Dot("Evaluations"),
+			),
+		),
+		jen.Var().Id("s").Id(name+"Solver"),
+		jen.Id("s").Dot("Start").Call(start.Clone()),
+		jen.If(jen.Id("r").Op(":=").Add(advance(jen.Lit(0))), jen.Id("r").Dot("Status").Op("!=").Id(name+"Running").Op("||").Id("r").Dot("Evaluations").Op("!=").Lit(0)).Block(
+			jen.Id("t").Dot("Errorf").Call(jen.Lit("budget 0: status %v after %d calls"), jen.Id("r").Dot("Status"), jen.Id("r").Dot("Evaluations")),
+		),
+	)...)
+
+	f.Commentf("Test%sSolverAllocatesNothing proves that starting and advancing a solver to the end of its run makes no heap allocation.", name)
+	f.Func().Id("Test" + name + "SolverAllocatesNothing").Params(jen.Id("t").Op("*").Qual("testing", "T")).Block(append(setup(),
+		jen.Var().Id("s").Id(name+"Solver"),
+		jen.Id("allocs").Op(":=").Qual("testing", "AllocsPerRun").Call(jen.Lit(10), jen.Func().Params().Block(
+			jen.Id("s").Dot("Start").Call(start.Clone()),
+			jen.For(advance(jen.Id(name+"TickMinimum")).Dot("Status").Op("==").Id(name+"Running")).Block(),
+		)),
+		jen.If(jen.Id("allocs").Op("!=").Lit(0)).Block(
+			jen.Id("t").Dot("Errorf").Call(jen.Lit("%v allocations per run, want 0"), jen.Id("allocs")),
+		),
+	)...)
+
+	f.Commentf("%s reports whether two results are the same, NaN matching NaN.", same)
+	eq := func(field string) *jen.Statement {
+		a, b := jen.Id("a").Dot(field), jen.Id("b").Dot(field)
+		return jen.Parens(a.Clone().Op("==").Add(b.Clone()).Op("||").Add(a.Clone()).Op("!=").Add(a.Clone()).Op("&&").Add(b.Clone()).Op("!=").Add(b.Clone()))
+	}
+	f.Func().Id(same).Params(jen.List(jen.Id("a"), jen.Id("b")).Id(name + "Result")).Bool().Block(
+		jen.Return(jen.Id("a").Dot("X").Op("==").Id("b").Dot("X").Op("&&").Add(eq("F")).Op("&&").Add(eq("Gradient")).Op("&&").Add(eq("GradientLimit")).Op("&&").
+			Id("a").Dot("Iterations").Op("==").Id("b").Dot("Iterations").Op("&&").Id("a").Dot("Evaluations").Op("==").Id("b").Dot("Evaluations").Op("&&").Id("a").Dot("Status").Op("==").Id("b").Dot("Status")),
+	)
 }

@@ -88,7 +88,7 @@ func TestEndToEnd(t *testing.T) {
 		// nothing, respects the cap, the gradient check when analytic.
 		want := map[string]int{"Benchmark": len(plans)}
 		for _, p := range plans {
-			want["Test"] += 3
+			want["Test"] += 5 // converges, allocates nothing, cap, solver ticks, solver allocates nothing
 			if p.Derivative == rules.Analytic {
 				want["Test"]++
 			}
@@ -207,7 +207,7 @@ func e2eCheckFiles(t *testing.T, root string, plans []*Plan, outs []Output) {
 		text := string(data)
 		if isTest {
 			var want []string
-			for _, fn := range []string{"Converges", "AllocatesNothing", "RespectsEvaluationCap"} {
+			for _, fn := range []string{"Converges", "AllocatesNothing", "RespectsEvaluationCap", "SolverTicks", "SolverAllocatesNothing"} {
 				want = append(want, "func Test"+p.M.Name+fn+"(t *testing.T)")
 			}
 			want = append(want, "func Benchmark"+p.M.Name+"(b *testing.B)")
@@ -423,10 +423,10 @@ func e2eCheckCoverage(t *testing.T, plans []*Plan) {
 // the minimizer found it; methods read their receiver's shift A, so a test
 // run on the wrong receiver misses the expected point.
 
-var e2eSpecs = []string{"plain/plain.toml", "grad/grad.toml", "methods/methods.toml", "boxed/boxed.toml"}
+var e2eSpecs = []string{"plain/plain.toml", "grad/grad.toml", "methods/methods.toml", "boxed/boxed.toml", "ticks/ticks.toml"}
 
 // e2ePackages are the module's packages whose tests must pass.
-var e2ePackages = []string{"e2e/plain", "e2e/grad", "e2e/methods/recv", "e2e/boxed"}
+var e2ePackages = []string{"e2e/plain", "e2e/grad", "e2e/methods/recv", "e2e/boxed", "e2e/ticks"}
 
 func e2eModule() map[string]string {
 	files := map[string]string{
@@ -439,6 +439,9 @@ func e2eModule() map[string]string {
 		"boxed/boxed.go":       e2eBoxedGo,
 		"boxed/boxed.toml":     e2eBoxedSpec,
 		"boxed/boxed_test.go":  e2eBoxedTest,
+		"ticks/ticks.go":       e2eTicksGo,
+		"ticks/ticks.toml":     e2eTicksSpec(),
+		"ticks/ticks_test.go":  e2eTicksTest(),
 	}
 	var recv strings.Builder
 	recv.WriteString(e2eRecvHead)

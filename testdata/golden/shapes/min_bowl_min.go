@@ -131,7 +131,7 @@ const MinBowlTickMinimum = 84
 //
 // Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 10 calls, an iteration 84, confirming a difference gradient 12. A budget of at least MinBowlTickMinimum = 84 progresses at every Advance; a smaller one may make no call. Advancing until the status is not MinBowlRunning ends exactly as MinBowlWithLimits does with the same limits, with the same calls, whatever the budgets.
 //
-// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient and the difference intervals kept from earlier ticks refer to it. When the receiver's data changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient and the difference intervals kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
 //
 // Stack, for 3 unknowns of float32 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): MinBowl and MinBowlWithLimits use at most 2056 bytes, the run's state included; Advance at most 1216 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 200 bytes.
 //
@@ -155,7 +155,7 @@ func (s *MinBowlSolver) Start(x0 [3]float32) {
 	s.run.forget()
 }
 
-// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the previous conjugate direction), a warm start: after the objective changed a little, as when the receiver's data tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X and chooses the difference intervals again, and the counts and limits start over.
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the previous conjugate direction), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X and chooses the difference intervals again, and the counts and limits start over.
 func (s *MinBowlSolver) StartFrom(from MinBowlResult) {
 	s.begin(from.X)
 }
