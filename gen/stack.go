@@ -44,6 +44,10 @@ func (p *Plan) stack() stackFigures {
 func stackDoc(p *Plan) string {
 	f := p.stack()
 	name := p.M.Name
-	return fmt.Sprintf("Stack, for %d unknowns of %s (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): %s and %sWithLimits use at most %d bytes, the run's state included; Advance at most %d bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most %d bytes.",
-		p.Dim, p.Shape.Elem, name, name, f.run, f.advance, f.start)
+	unknowns := "unknowns"
+	if p.Dim == 1 {
+		unknowns = "unknown"
+	}
+	return fmt.Sprintf("Stack, for %d %s of %s (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): %s and %sWithLimits use at most %d bytes, the run's state included; Advance at most %d bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most %d bytes.",
+		p.Dim, unknowns, p.Shape.Elem, name, name, f.run, f.advance, f.start)
 }
