@@ -26,6 +26,8 @@ const (
 	TuneGainNoDecrease
 	// TuneGainDiverged: a fixed step overflowed f, or raised f above f(x0) at eight steps in a row: the step is too long for this objective.
 	TuneGainDiverged
+	// TuneGainRunning: the run has not ended: this tick's call budget does not cover the worst case of its next stage; X is the best point so far, and advancing again goes on.
+	TuneGainRunning
 )
 
 // String describes the status in a few words.
@@ -49,6 +51,8 @@ func (s TuneGainStatus) String() string {
 		return "no decrease"
 	case TuneGainDiverged:
 		return "diverged"
+	case TuneGainRunning:
+		return "running"
 	default:
 		return "unknown status"
 	}
@@ -88,6 +92,9 @@ func TuneGainDefaultLimits() TuneGainLimits {
 	}
 }
 
+// tuneGainBox is empty: quickstart.toml sets no bounds on TuneGain.
+type tuneGainBox struct{}
+
 // TuneGain minimizes GainCost from x0, as quickstart.toml specifies.
 //
 // Direction bfgs: BFGS quasi-Newton with a dense inverse-Hessian approximation (dim² numbers).
@@ -105,7 +112,75 @@ func TuneGain(x0 float64) TuneGainResult {
 
 // TuneGainWithLimits is TuneGain with stop limits chosen at run time, without allocating. It makes at most limits.Evaluations objective calls, however the other limits are set.
 func TuneGainWithLimits(x0 float64, limits TuneGainLimits) TuneGainResult {
-	out := tuneGainMinimize([1]float64{x0}, limits)
+	out := tuneGainMinimize([1]float64{x0}, limits, tuneGainBox{})
+	return TuneGainResult{
+		Evaluations:   out.evaluations,
+		F:             out.f,
+		Gradient:      out.gradient,
+		GradientLimit: out.gradientLimit,
+		Iterations:    out.iterations,
+		Status:        out.status,
+		X:             out.x[0],
+	}
+}
+
+// TuneGainTickMinimum is the smallest call budget with which every TuneGainSolver.Advance progresses: the largest worst case of one stage of a run (the start 7 calls, an iteration 50, confirming a difference gradient 8).
+const TuneGainTickMinimum = 50
+
+// TuneGainSolver is a run of TuneGain that the caller owns and advances a tick at a time, for control loops that may spend only so many objective calls per tick. It is a plain value: declare it once (a variable or a field) and it never allocates; copying it copies the run. Start begins a run, Advance goes on with it, StartFrom begins a new one where an earlier one ended keeping the direction's memory, Forget drops that memory, SetLimits changes the stop limits (TuneGainDefaultLimits until then). The zero value is ready: its first Advance starts at the zero x0.
+//
+// Budget rule: Advance(…, budget) makes at most budget objective calls, so the worst case of one Advance is its budget. It begins a stage of the run only when the calls left in the tick cover that stage's worst case: the start 7 calls, an iteration 50, confirming a difference gradient 8. A budget of at least TuneGainTickMinimum = 50 progresses at every Advance; a smaller one may make no call. Advancing until the status is not TuneGainRunning ends exactly as TuneGainWithLimits does with the same limits, with the same calls, whatever the budgets.
+//
+// Advancing assumes the objective stays the same function throughout a run: f(x), the gradient and the difference intervals kept from earlier ticks refer to it. When the data the objective reads changes between ticks (tracking a moving target), call StartFrom with the last result before advancing again: the new run starts from that point with fresh values, and the direction's memory stays a good guess while the curvature changes slowly.
+//
+// Stack, for 1 unknown of float64 (the compiler's frame sizes summed over the deepest call chain, go build -gcflags=-S, amd64 and arm64; the objective's own frames excluded): TuneGain and TuneGainWithLimits use at most 1872 bytes, the run's state included; Advance at most 1152 bytes besides the solver itself, which lives wherever the caller declares it; Start, StartFrom, SetLimits and Forget at most 176 bytes.
+//
+// While Status is TuneGainRunning, X is the best point so far, not a verified minimizer: check Status.Converged() before acting on X.
+type TuneGainSolver struct {
+	run       tuneGainDescent // the run: its point, gradient, difference intervals, the direction's memory and the loop's bookkeeping
+	limits    TuneGainLimits  // the limits of the runs; TuneGainDefaultLimits() until SetLimits
+	ownLimits bool            // whether SetLimits has set limits
+	started   bool            // whether a run has begun
+}
+
+// SetLimits sets the stop limits of the run in progress and of later ones; the iteration limit and the evaluation cap count from the run's start (Start or StartFrom).
+func (s *TuneGainSolver) SetLimits(limits TuneGainLimits) {
+	s.limits, s.ownLimits = limits, true
+	s.run.lim = limits
+}
+
+// Start begins a new run at x0 (moved into the bounds when the spec has them) and forgets the direction's memory. It makes no objective call: the next Advance does.
+func (s *TuneGainSolver) Start(x0 float64) {
+	s.begin(x0)
+	s.run.forget()
+}
+
+// StartFrom begins a new run at from.X, keeping what the direction learned in earlier runs (the inverse-Hessian approximation), a warm start: after the objective changed a little, as when the data it reads tracks a moving target, the next run starts from the last point with a good model of the curvature. It makes no objective call; the next Advance evaluates f afresh at from.X and chooses the difference intervals again, and the counts and limits start over.
+func (s *TuneGainSolver) StartFrom(from TuneGainResult) {
+	s.begin(from.X)
+}
+
+// Forget forgets the direction's memory (the inverse-Hessian approximation); the run goes on from its point, next with a steepest-descent step.
+func (s *TuneGainSolver) Forget() {
+	s.run.forget()
+}
+
+// begin prepares a run at x0 with the solver's limits, the direction's memory kept.
+func (s *TuneGainSolver) begin(x0 float64) {
+	if !s.ownLimits {
+		s.limits = TuneGainDefaultLimits()
+	}
+	s.run.prepare([1]float64{x0}, s.limits, tuneGainBox{})
+	s.started = true
+}
+
+// Advance goes on with the run for at most budget objective calls and returns its result, or, when this tick's budget does not cover the next stage, the best point so far with Status TuneGainRunning (Converged false): check Status before acting on X. A run that has ended returns its result again without a call; a solver never started begins at the zero x0. See TuneGainSolver for the budget rule and what advancing assumes of the objective.
+func (s *TuneGainSolver) Advance(budget int) TuneGainResult {
+	if !s.started {
+		var x0 float64
+		s.Start(x0)
+	}
+	out := s.run.advance(budget)
 	return TuneGainResult{
 		Evaluations:   out.evaluations,
 		F:             out.f,
@@ -119,13 +194,15 @@ func TuneGainWithLimits(x0 float64, limits TuneGainLimits) TuneGainResult {
 
 // Tunables of TuneGain from quickstart.toml; the kernels below read them.
 const (
-	tuneGainStepInitial    = 1.0                    // step.initial
-	tuneGainStepShrink     = 0.5                    // step.shrink
-	tuneGainStepDecrease   = 0.0001                 // step.decrease (c1)
-	tuneGainStepTrials     = 48                     // step.trials
-	tuneGainDerivativeCost = 2                      // objective calls per gradient
-	tuneGainUnitRoundoff   = 1.1102230246251565e-16 // unit roundoff u of the float type
-	tuneGainLargestFinite  = 0x1.fffffffffffffp1023 // the largest finite value of the float type
+	tuneGainStepInitial     = 1.0                    // step.initial
+	tuneGainStepShrink      = 0.5                    // step.shrink
+	tuneGainStepDecrease    = 0.0001                 // step.decrease (c1)
+	tuneGainStepTrials      = 48                     // step.trials
+	tuneGainDerivativeCost  = 2                      // objective calls per gradient
+	tuneGainCalibrationCost = 4                      // objective calls of choosing the difference intervals
+	tuneGainIterationCalls  = 50                     // most objective calls of one line search with the gradient at its step
+	tuneGainUnitRoundoff    = 1.1102230246251565e-16 // unit roundoff u of the float type
+	tuneGainLargestFinite   = 0x1.fffffffffffffp1023 // the largest finite value of the float type
 )
 
 // tuneGainMinimize runs the descent loop from x0 within lim:
@@ -158,173 +235,11 @@ const (
 // seen unless the run converged, which it did at X. A fixed step whose
 // value overflows, or that raised f above f(x0) at eight steps in a row,
 // ends the run as diverged (common practice for a divergence test).
-func tuneGainMinimize(x0 [1]float64, lim TuneGainLimits) tuneGainOutcome {
-	out := tuneGainOutcome{x: x0, status: TuneGainOutOfEvaluations, gradient: math.NaN()}
-	if lim.Evaluations < 1 {
-		return out
-	}
-	x := x0
-	fx := GainCost(x[0])
-	out.f, out.evaluations = fx, 1
-	if !tuneGainFinite(fx) || !tuneGainFiniteVec(&x) {
-		out.status = TuneGainNonFiniteStart
-		return out
-	}
-	var diffs tuneGainDifferences
-	calls, ok := tuneGainCalibrate(&x, fx, &diffs, lim.Evaluations-out.evaluations)
-	out.evaluations += calls
-	if !ok || out.evaluations+tuneGainDerivativeCost > lim.Evaluations {
-		return out
-	}
-	var g, e [1]float64
-	tuneGainDerivative(&x, fx, &g, &diffs)
-	out.evaluations += tuneGainDerivativeCost
-
-	if !tuneGainFiniteVec(&g) {
-		out.status = TuneGainNonFiniteGradient
-		return out
-	}
-	var dir tuneGainDirection
-	dir.reset()
-	var d, xt, gt, s, y [1]float64
-	t, slope := float64(tuneGainStepInitial), float64(0) // the previous iteration's accepted step and slope
-	best := out                                          // the lowest point seen, for runs that end unconverged
-	start, rises := fx, 0                                // f(x0), and consecutive accepted steps that raised f above it
-	confirmed := false                                   // whether g and e at x come from tuneGainConfirmGradient or settle
-	stalled := false                                     // whether the run can make no more progress at x
-	retried := -1                                        // the iteration whose stall was retried with recalibrated differences
-	verify := tuneGainVerifyNothing                      // what to check at x before judging it again
-	for {
-		switch {
-		case verify != tuneGainVerifyNothing:
-			// Confirm a difference gradient that passed the test, or
-			// settle at a stall (see tuneGainConfirmGradient and settle).
-			calls, ok := tuneGainSettle(&x, fx, &g, &e, &diffs, verify == tuneGainVerifyStall, lim.Evaluations-out.evaluations)
-			out.evaluations += calls
-			if !ok {
-				return best.ending(TuneGainOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			if !tuneGainFiniteVec(&g) {
-				return best.ending(TuneGainNonFiniteGradient, out.iterations, out.evaluations)
-			}
-			verify, confirmed = tuneGainVerifyNothing, true
-		case !confirmed:
-			tuneGainGradientError(&x, fx, &g, &e, &diffs)
-		}
-		measure, floor := tuneGainGradientMeasure(&g, &e, &x, fx)
-		out.gradient, out.gradientLimit = measure, tuneGainLarger(lim.Gradient, 3*floor)
-		if stalled {
-			// No step can make progress here: the gradient is as small as
-			// this point shows it, within ten times the limit or the floor.
-			out.gradientLimit = 10 * tuneGainLarger(lim.Gradient, floor)
-		}
-		if out.f <= best.f {
-			best = out
-		}
-		if measure <= out.gradientLimit && (tuneGainDerivativeCost == 0 || confirmed) {
-			out.status = TuneGainGradientSmall
-			return out
-		}
-		if measure <= out.gradientLimit {
-			verify = tuneGainVerifyPass // differences pass the test: confirm it
-			continue
-		}
-		if stalled {
-			// Settled and still above the limit: stalled, unless
-			// differences, whose intervals were just chosen here, can
-			// search once more with the better gradient.
-			if tuneGainDerivativeCost == 0 {
-				return best.ending(TuneGainStalled, out.iterations, out.evaluations)
-			}
-			stalled, retried = false, out.iterations
-		}
-		// At a stall, settle first: the run is converged if the gradient
-		// is zero to the rounding of x (and, with differences, to their
-		// accuracy, confirmed); see settle.
-		canSettle := retried != out.iterations
-		if out.iterations > 0 && canSettle {
-			if tuneGainStepWithin(&s, &x, lim.Step) {
-				verify, stalled = tuneGainVerifyStall, true
-				continue
-			}
-			if rises >= 8 {
-				return best.ending(TuneGainDiverged, out.iterations, out.evaluations)
-			}
-			dir.update(&s, &y)
-		}
-		if out.iterations >= lim.Iterations {
-			return best.ending(TuneGainOutOfIterations, out.iterations, out.evaluations)
-		}
-		dir.compute(&g, &d)
-		now := tuneGainDot(&g, &d)
-		if !(now < 0) || !tuneGainFiniteVec(&d) {
-			dir.reset() // not a descent direction: start again from steepest descent
-			dir.compute(&g, &d)
-			now = tuneGainDot(&g, &d)
-		}
-		first := float64(tuneGainStepInitial)
-		if out.iterations > 0 {
-			first = dir.firstTrial(t, slope, now)
-		}
-		tiny := tuneGainTinyStep(&x, &d, lim.Step) // steps t ≤ tiny pass the step test
-		found := tuneGainLineSearch(&x, fx, &d, now, first, tiny, lim.Evaluations-out.evaluations, &xt, &gt, &diffs)
-		out.evaluations += found.calls
-		switch found.end {
-		case tuneGainSearchOutOfBudget:
-			return best.ending(TuneGainOutOfEvaluations, out.iterations, out.evaluations)
-		case tuneGainSearchDiverged:
-			return best.ending(TuneGainDiverged, out.iterations, out.evaluations)
-		case tuneGainSearchExhausted, tuneGainSearchTiny:
-			// No acceptable step. When an analytic gradient predicted a
-			// fall that f contradicted in proportion to the step, the
-			// gradient is probably wrong (see tuneGainRiseTrend, which never
-			// reports that for differences); otherwise the search stalled
-			// below the step limit, or ran out of trials.
-			end := TuneGainNoAcceptableStep
-			switch {
-			case found.rising:
-				end = TuneGainNoDecrease
-			case found.end == tuneGainSearchTiny && canSettle:
-				verify, stalled = tuneGainVerifyStall, true
-				continue
-			case found.end == tuneGainSearchTiny:
-				end = TuneGainStalled
-			}
-			return best.ending(end, out.iterations, out.evaluations)
-		}
-		if !tuneGainFiniteVec(&xt) {
-			return best.ending(TuneGainNoAcceptableStep, out.iterations, out.evaluations) // the accepted trial overflowed x
-		}
-		if !found.gradient {
-			if out.evaluations+tuneGainDerivativeCost > lim.Evaluations {
-				if found.value < best.f { // keep a better point even without its gradient
-					best.x, best.f, best.gradient = xt, found.value, math.NaN()
-					out.iterations++
-				}
-				return best.ending(TuneGainOutOfEvaluations, out.iterations, out.evaluations)
-			}
-			tuneGainDerivative(&xt, found.value, &gt, &diffs)
-			out.evaluations += tuneGainDerivativeCost
-		}
-		out.iterations++
-		tuneGainDifference(&s, &xt, &x)
-		tuneGainDifference(&y, &gt, &g)
-		if found.value > fx && found.value > start {
-			rises++
-		} else {
-			rises = 0
-		}
-		x, fx, g, confirmed = xt, found.value, gt, false
-		out.x, out.f, out.gradient = x, fx, math.NaN()
-		t, slope = found.step, now
-
-		if !tuneGainFiniteVec(&g) {
-			if out.f < best.f {
-				best = out
-			}
-			return best.ending(TuneGainNonFiniteGradient, out.iterations, out.evaluations)
-		}
-	}
+func tuneGainMinimize(x0 [1]float64, lim TuneGainLimits, bounds tuneGainBox) tuneGainOutcome {
+	var r tuneGainDescent
+	r.prepare(x0, lim, bounds)
+	r.forget()
+	return r.advance(tuneGainUnlimited)
 }
 
 // tuneGainOutcome is the kernel's report; the generated entry point copies it into
@@ -345,190 +260,289 @@ func (o tuneGainOutcome) ending(end TuneGainStatus, iterations, evaluations int)
 	return o
 }
 
-// tuneGainFinite reports whether v is neither NaN nor ±Inf, by comparing it with
-// the largest finite value of elem: a NaN fails both comparisons. The
-// shorter test v-v == 0 is not used, since it relies on exact
-// cancellation: when v is a product inlined from the objective, compilers
-// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
-// multiply-subtract, x·y − round(x·y), which yields the product's
-// rounding error instead of 0 (the Go spec allows such fusion; comparisons
-// are never fused).
-func tuneGainFinite(v float64) bool {
-	return v >= -tuneGainLargestFinite && v <= tuneGainLargestFinite
+// tuneGainDescent is one run of the descent loop, held in a value so
+// that a caller can run it a tick at a time (see advance): the limits, the
+// point with its value, gradient and error bound, the difference
+// intervals, the direction's memory, the previous step and the loop's
+// bookkeeping. prepare begins a run and keeps the direction's memory;
+// forget forgets it.
+type tuneGainDescent struct {
+	lim       TuneGainLimits
+	stage     int                 // what advance does next
+	diffs     tuneGainDifferences // the box and the difference intervals
+	dir       tuneGainDirection   // the direction's memory
+	x, g, e   [1]float64          // the point, its gradient and the gradient's error bound
+	d, s, y   [1]float64          // the search direction, the last step and its gradient change
+	fx        float64             // f(x)
+	t, slope  float64             // the previous iteration's accepted step and slope
+	out, best tuneGainOutcome     // the run so far, and its lowest point for runs that end unconverged
+	start     float64             // f(x0)
+	rises     int                 // consecutive accepted steps that raised f above f(x0)
+	confirmed bool                // whether g and e at x come from tuneGainConfirmGradient or settle
+	stalled   bool                // whether the run can make no more progress at x
+	retried   int                 // the iteration whose stall was retried with recalibrated differences
+	verify    int                 // what to check at x before judging it again
 }
 
-// tuneGainFiniteVec reports whether every component of x is finite.
-func tuneGainFiniteVec(x *[1]float64) bool {
-	for i := range x {
-		if !tuneGainFinite(x[i]) {
-			return false
+// prepare begins a run at x0, moved into the box, within lim. It makes no
+// objective call and keeps the direction's memory.
+func (r *tuneGainDescent) prepare(x0 [1]float64, lim TuneGainLimits, bounds tuneGainBox) {
+	r.lim, r.stage = lim, tuneGainStageBegin
+	r.diffs = tuneGainDifferences{bounds: bounds}
+	r.x = x0
+	tuneGainEnterBox(&r.x, &r.diffs.bounds)
+	r.g, r.e, r.d, r.s, r.y = [1]float64{}, [1]float64{}, [1]float64{}, [1]float64{}, [1]float64{}
+	r.out = tuneGainOutcome{x: r.x, f: math.NaN(), status: TuneGainOutOfEvaluations, gradient: math.NaN()}
+	r.best = r.out
+}
+
+// forget forgets the direction's memory (the BFGS matrix, the L-BFGS
+// pairs, the previous CG direction): the next step is steepest descent.
+func (r *tuneGainDescent) forget() {
+	r.dir.reset()
+}
+
+// advance runs the stages of the run until it ends, and returns its
+// result, or until the calls left of budget, this tick's, do not cover
+// the worst case of the next stage, and returns the best point so far
+// with TuneGainRunning. It never makes more than budget objective calls;
+// the smallest budget that always lets it progress is the largest of
+// startCalls, settleCalls and tuneGainIterationCalls. A run that has ended
+// returns its result again without a call.
+func (r *tuneGainDescent) advance(budget int) tuneGainOutcome {
+	used := r.out.evaluations
+	for r.stage != tuneGainStageOver {
+		left := budget - (r.out.evaluations - used)
+		switch r.stage {
+		case tuneGainStageBegin:
+			if left < 1+tuneGainCalibrationCost+tuneGainDerivativeCost { // startCalls
+				return r.paused()
+			}
+			r.begin()
+		case tuneGainStageJudge:
+			if r.verify != tuneGainVerifyNothing && left < tuneGainCalibrationCost+2*tuneGainDerivativeCost { // settleCalls
+				return r.paused()
+			}
+			r.judge()
+		default:
+			if left < tuneGainIterationCalls {
+				return r.paused()
+			}
+			r.search()
 		}
 	}
-	return true
+	return r.out
 }
 
-// tuneGainDifferences is what the difference gradients learn from the objective
-// at the start: for each coordinate i, the interval as a multiple of
-// max(1, |x_i|), and the curvature along e_i it was chosen from (|f″| for
-// forward differences, |f‴| for central ones). The analytic gradient
-// leaves it unused.
+// paused is the best point so far, reported as still running.
+func (r *tuneGainDescent) paused() tuneGainOutcome {
+	return r.best.ending(TuneGainRunning, r.out.iterations, r.out.evaluations)
+}
+
+// finish ends the run with the best point seen.
+func (r *tuneGainDescent) finish(end TuneGainStatus) {
+	r.out = r.best.ending(end, r.out.iterations, r.out.evaluations)
+	r.stage = tuneGainStageOver
+}
+
+// begin is the start: the first value, the calibration of differences
+// and the first gradient.
+func (r *tuneGainDescent) begin() {
+	r.stage = tuneGainStageOver
+	r.out.f = 0
+	if r.lim.Evaluations < 1 {
+		return
+	}
+	r.fx = GainCost(r.x[0])
+	r.out.f, r.out.evaluations = r.fx, 1
+	if !tuneGainFinite(r.fx) || !tuneGainFiniteVec(&r.x) {
+		r.out.status = TuneGainNonFiniteStart
+		return
+	}
+	calls, ok := tuneGainCalibrate(&r.x, r.fx, &r.diffs, r.lim.Evaluations-r.out.evaluations)
+	r.out.evaluations += calls
+	if !ok || r.out.evaluations+tuneGainDerivativeCost > r.lim.Evaluations {
+		return
+	}
+	r.out.evaluations += tuneGainDerivative(&r.x, r.fx, &r.g, &r.diffs)
+
+	if !tuneGainFiniteVec(&r.g) {
+		r.out.status = TuneGainNonFiniteGradient
+		return
+	}
+	r.t, r.slope = tuneGainStepInitial, 0
+	r.best = r.out
+	r.start, r.rises = r.fx, 0
+	r.confirmed, r.stalled, r.retried, r.verify = false, false, -1, tuneGainVerifyNothing
+	r.stage = tuneGainStageJudge
+}
+
+// judge is steps 1, 2, 5 (learning) and 6 at x: it settles when asked,
+// tests convergence and the stall, and lets the direction learn from the
+// step that led to x; it leaves tuneGainStageSearch next when the run goes on.
+func (r *tuneGainDescent) judge() {
+	switch {
+	case r.verify != tuneGainVerifyNothing:
+		// Confirm a difference gradient that passed the test, or
+		// settle at a stall (see tuneGainConfirmGradient and settle).
+		calls, ok := tuneGainSettle(&r.x, r.fx, &r.g, &r.e, &r.diffs, r.verify == tuneGainVerifyStall, r.lim.Evaluations-r.out.evaluations)
+		r.out.evaluations += calls
+		if !ok {
+			r.finish(TuneGainOutOfEvaluations)
+			return
+		}
+		if !tuneGainFiniteVec(&r.g) {
+			r.finish(TuneGainNonFiniteGradient)
+			return
+		}
+		r.verify, r.confirmed = tuneGainVerifyNothing, true
+	case !r.confirmed:
+		tuneGainGradientError(&r.x, r.fx, &r.g, &r.e, &r.diffs)
+	}
+	measure, floor := tuneGainStationarity(&r.g, &r.e, &r.x, r.fx, &r.diffs.bounds)
+	r.out.gradient, r.out.gradientLimit = measure, tuneGainLarger(r.lim.Gradient, 3*floor)
+	if r.stalled {
+		// No step can make progress here: the gradient is as small as
+		// this point shows it, within ten times the limit or the floor.
+		r.out.gradientLimit = 10 * tuneGainLarger(r.lim.Gradient, floor)
+	}
+	if r.out.f <= r.best.f {
+		r.best = r.out
+	}
+	if measure <= r.out.gradientLimit && (tuneGainDerivativeCost == 0 || r.confirmed) {
+		r.out.status = TuneGainGradientSmall
+		r.stage = tuneGainStageOver
+		return
+	}
+	if measure <= r.out.gradientLimit {
+		r.verify = tuneGainVerifyPass // differences pass the test: confirm it
+		return
+	}
+	if r.stalled {
+		// Settled and still above the limit: stalled, unless
+		// differences, whose intervals were just chosen here, can
+		// search once more with the better gradient.
+		if tuneGainDerivativeCost == 0 {
+			r.finish(TuneGainStalled)
+			return
+		}
+		r.stalled, r.retried = false, r.out.iterations
+	}
+	// At a stall, settle first: the run is converged if the gradient
+	// is zero to the rounding of x (and, with differences, to their
+	// accuracy, confirmed); see settle.
+	if r.out.iterations > 0 && r.retried != r.out.iterations {
+		if tuneGainStepWithin(&r.s, &r.x, r.lim.Step) {
+			r.verify, r.stalled = tuneGainVerifyStall, true
+			return
+		}
+		if r.rises >= 8 {
+			r.finish(TuneGainDiverged)
+			return
+		}
+		tuneGainCurvaturePair(&r.s, &r.y, &r.x, &r.diffs.bounds)
+		r.dir.update(&r.s, &r.y)
+	}
+	if r.out.iterations >= r.lim.Iterations {
+		r.finish(TuneGainOutOfIterations)
+		return
+	}
+	r.stage = tuneGainStageSearch
+}
+
+// search is steps 3 to 5: the direction, the line search, the move and
+// the gradient at the new point; it leaves tuneGainStageJudge next when the run
+// goes on.
+func (r *tuneGainDescent) search() {
+	tuneGainSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+	now := tuneGainDot(&r.g, &r.d)
+	if !(now < 0) || !tuneGainFiniteVec(&r.d) {
+		r.dir.reset() // not a descent direction: start again from steepest descent
+		tuneGainSearchDirection(&r.dir, &r.x, &r.g, &r.d, &r.diffs.bounds)
+		now = tuneGainDot(&r.g, &r.d)
+	}
+	first := float64(tuneGainStepInitial)
+	if r.out.iterations > 0 {
+		first = r.dir.firstTrial(r.t, r.slope, now)
+	}
+	tiny := tuneGainTinyStep(&r.x, &r.d, r.lim.Step) // steps t ≤ tiny pass the step test
+	var xt, gt [1]float64
+	found := tuneGainLineSearch(&r.x, r.fx, &r.g, &r.d, now, first, tiny, r.lim.Evaluations-r.out.evaluations, &xt, &gt, &r.diffs)
+	r.out.evaluations += found.calls
+	switch found.end {
+	case tuneGainSearchOutOfBudget:
+		r.finish(TuneGainOutOfEvaluations)
+		return
+	case tuneGainSearchDiverged:
+		r.finish(TuneGainDiverged)
+		return
+	case tuneGainSearchExhausted, tuneGainSearchTiny:
+		// No acceptable step. When an analytic gradient predicted a
+		// fall that f contradicted in proportion to the step, the
+		// gradient is probably wrong (see tuneGainRiseTrend, which never
+		// reports that for differences); otherwise the search stalled
+		// below the step limit, or ran out of trials.
+		end := TuneGainNoAcceptableStep
+		switch {
+		case found.rising:
+			end = TuneGainNoDecrease
+		case found.end == tuneGainSearchTiny && r.retried != r.out.iterations:
+			r.verify, r.stalled, r.stage = tuneGainVerifyStall, true, tuneGainStageJudge
+			return
+		case found.end == tuneGainSearchTiny:
+			end = TuneGainStalled
+		}
+		r.finish(end)
+		return
+	}
+	if !tuneGainFiniteVec(&xt) {
+		r.finish(TuneGainNoAcceptableStep) // the accepted trial overflowed x
+		return
+	}
+	if !found.gradient {
+		if r.out.evaluations+tuneGainDerivativeCost > r.lim.Evaluations {
+			if found.value < r.best.f { // keep a better point even without its gradient
+				r.best.x, r.best.f, r.best.gradient = xt, found.value, math.NaN()
+				r.out.iterations++
+			}
+			r.finish(TuneGainOutOfEvaluations)
+			return
+		}
+		r.out.evaluations += tuneGainDerivative(&xt, found.value, &gt, &r.diffs)
+	}
+	r.out.iterations++
+	tuneGainDifference(&r.s, &xt, &r.x)
+	tuneGainDifference(&r.y, &gt, &r.g)
+	if found.value > r.fx && found.value > r.start {
+		r.rises++
+	} else {
+		r.rises = 0
+	}
+	r.x, r.fx, r.g, r.confirmed = xt, found.value, gt, false
+	r.out.x, r.out.f, r.out.gradient = r.x, r.fx, math.NaN()
+	r.t, r.slope = found.step, now
+
+	if !tuneGainFiniteVec(&r.g) {
+		if r.out.f < r.best.f {
+			r.best = r.out
+		}
+		r.finish(TuneGainNonFiniteGradient)
+		return
+	}
+	r.stage = tuneGainStageJudge
+}
+
+// tuneGainDifferences is what the kernel knows about evaluating the objective:
+// the box it may be evaluated in, and what the difference gradients learn
+// from the objective at the start: for each coordinate i, the interval as
+// a multiple of max(1, |x_i|), and the curvature along e_i it was chosen
+// from (|f″| for forward differences, |f‴| for central ones). The
+// analytic gradient uses only the box.
 type tuneGainDifferences struct {
 	ratio     [1]float64
 	curvature [1]float64
 	second    [1]float64 // |f″| along e_i, for the rounding floor of a stall (see tuneGainRoundingFloor)
-}
-
-// tuneGainCalibrate chooses each central-difference interval from the
-// third derivative along e_i, estimated at x with four probes at ±h̄ and
-// ±2h̄, h̄ = u^(1/4)·s, s = max(1, |x_i|):
-//
-//	f‴ ≈ (f(x + 2h̄eᵢ) − 2f(x + h̄eᵢ) + 2f(x − h̄eᵢ) − f(x − 2h̄eᵢ)) / (2h̄³),
-//	h_i  = ∛(3ε_A / |f‴|)
-//
-// the interval that minimizes the truncation error h²|f‴|/6 plus the
-// rounding error ε_A/h of a central difference (Nocedal & Wright 2006,
-// §8.1, with the third-derivative estimate of the forward interval's
-// procedure of Gill, Murray, Saunders & Wright 1983 carried one order
-// up), with ε_A from tuneGainNoiseLevel and the probes' slopes. An estimate below
-// its rounding noise 3ε_A/h̄³ is replaced by that noise, and h_i is kept
-// within [64u·s, h̄]. It costs four objective calls per unknown.
-func tuneGainCalibrate(x *[1]float64, fx float64, diffs *tuneGainDifferences, budget int) (int, bool) {
-	probe := *x
-	var slope [1]float64
-	scale := tuneGainAbs(fx)
-	quarter := tuneGainSquareRoot(tuneGainSquareRoot(tuneGainUnitRoundoff)) // u^(1/4)
-	for i := range probe {
-		if 4*(i+1) > budget {
-			return 4 * i, false
-		}
-		xi := probe[i]
-		bar := quarter * tuneGainLarger(1, tuneGainAbs(xi))
-		var f [4]float64
-		for k, m := range [4]float64{2, 1, -1, -2} {
-			probe[i], _ = tuneGainProbeStep(xi, m*bar)
-			f[k] = GainCost(probe[0])
-			scale = tuneGainLarger(scale, tuneGainMagnitude(f[k]))
-		}
-		probe[i] = xi
-		if tuneGainFinite(f[0]) && tuneGainFinite(f[1]) && tuneGainFinite(f[2]) && tuneGainFinite(f[3]) {
-			diffs.curvature[i] = tuneGainAbs(f[0]-2*f[1]+2*f[2]-f[3]) / (2 * bar * bar * bar)
-			diffs.second[i] = tuneGainAbs(f[1]-2*fx+f[2]) / (bar * bar)
-			slope[i] = (f[1] - f[2]) / (2 * bar)
-		}
-	}
-	noise := tuneGainNoiseLevel(x, scale, &slope)
-	for i := range probe {
-		s := tuneGainLarger(1, tuneGainAbs(probe[i]))
-		bar := quarter * s
-		third := tuneGainLarger(diffs.curvature[i], 3*noise/(bar*bar*bar))
-		h := bar
-		if third > 0 {
-			h = tuneGainCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
-		}
-		diffs.ratio[i] = tuneGainClampBetween(h, 64*tuneGainUnitRoundoff*s, bar) / s
-		diffs.curvature[i] = third
-	}
-	return 4 * len(probe), true
-}
-
-// tuneGainAbs returns |v|.
-func tuneGainAbs(v float64) float64 {
-	if v < 0 {
-		return -v
-	}
-	return v
-}
-
-// tuneGainSquareRoot returns √v.
-func tuneGainSquareRoot(v float64) float64 {
-	return math.Sqrt(v)
-}
-
-// tuneGainLarger returns the larger of a and b, or a NaN among them. The builtin
-// max is not used: a package-level max or min in the user's package would
-// shadow it in the generated file.
-func tuneGainLarger(a, b float64) float64 {
-	if a > b || a != a {
-		return a
-	}
-	return b
-}
-
-// tuneGainProbeStep returns x_i moved by h, and the step actually representable.
-func tuneGainProbeStep(xi, h float64) (float64, float64) {
-	moved := xi + h
-	return moved, moved - xi
-}
-
-// tuneGainMagnitude is |v| for a finite v and 0 otherwise: a probe that fell
-// outside the objective's domain says nothing about its rounding.
-func tuneGainMagnitude(v float64) float64 {
-	if !tuneGainFinite(v) {
-		return 0
-	}
-	return tuneGainAbs(v)
-}
-
-// tuneGainNoiseLevel is the absolute error assumed in a computed value fx of the
-// objective at x, where its gradient is about g:
-//
-//	ε_A = 4u·(|fx| + Σᵢ |gᵢ·xᵢ|),
-//
-// a few roundings of the result plus the change that rounding each xᵢ by
-// a relative u makes in f, which is what an objective computed with
-// cancellation inside (y − x² in Rosenbrock's valley) shows near a zero
-// minimum, where u·|f| alone vanishes (the first-order error of
-// evaluating f at a rounded x; the factor 4 is common practice; Gill,
-// Murray, Saunders & Wright 1983 leave ε_A to the user).
-func tuneGainNoiseLevel(x *[1]float64, fx float64, g *[1]float64) float64 {
-	sum := tuneGainAbs(fx)
-	for i := range x {
-		sum += tuneGainAbs(g[i] * x[i])
-	}
-	return 4 * tuneGainUnitRoundoff * sum
-}
-
-// tuneGainCubeRoot returns ∛v for v ≥ 0.
-func tuneGainCubeRoot(v float64) float64 {
-	return math.Cbrt(v)
-}
-
-// tuneGainClampBetween returns v limited to the interval with ends a and b, in
-// either order.
-func tuneGainClampBetween(v, a, b float64) float64 {
-	if a > b {
-		a, b = b, a
-	}
-	if v < a {
-		return a
-	}
-	if v > b {
-		return b
-	}
-	return v
-}
-
-// tuneGainDerivative approximates the gradient by central differences,
-//
-//	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),
-//
-// with the intervals tuneGainCalibrate chose, h_i = ratio_i·max(1, |x_i|)
-// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls; fx is
-// not needed.
-func tuneGainDerivative(x *[1]float64, fx float64, g *[1]float64, diffs *tuneGainDifferences) {
-	probe := *x
-	for i := range probe {
-		xi := probe[i]
-		h := diffs.ratio[i] * tuneGainLarger(1, tuneGainAbs(xi))
-		up, _ := tuneGainProbeStep(xi, h)
-		down, _ := tuneGainProbeStep(xi, -h)
-		probe[i] = up
-		fUp := GainCost(probe[0])
-		probe[i] = down
-		fDown := GainCost(probe[0])
-		g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
-		probe[i] = xi
-	}
+	bounds    tuneGainBox
 }
 
 // tuneGainDirection is the BFGS quasi-Newton direction d = −H∇f(x), where H
@@ -621,12 +635,306 @@ func tuneGainCurvatureSafe(s, y *[1]float64) bool {
 	return sy > 0 && (sy/tuneGainDot(s, s))*(sy/tuneGainDot(y, y)) > tuneGainUnitRoundoff
 }
 
+// The stages of a run: advance starts each only when the calls left in
+// the tick cover its worst case.
+const (
+	tuneGainStageBegin  = iota // the first value, the calibration and the first gradient: startCalls
+	tuneGainStageJudge         // settle when asked (settleCalls), judge x, learn from the step: no calls otherwise
+	tuneGainStageSearch        // the line search and the gradient at the accepted point: tuneGainIterationCalls
+	tuneGainStageOver          // the run has ended; out is its result
+)
+
+// tuneGainEnterBox: without bounds every start is inside.
+func tuneGainEnterBox(x *[1]float64, b *tuneGainBox) {}
+
 // What minimize checks at x before judging it again.
 const (
 	tuneGainVerifyNothing = iota
 	tuneGainVerifyPass    // a difference gradient passed the test
 	tuneGainVerifyStall   // no step makes progress
 )
+
+// tuneGainFinite reports whether v is neither NaN nor ±Inf, by comparing it with
+// the largest finite value of elem: a NaN fails both comparisons. The
+// shorter test v-v == 0 is not used, since it relies on exact
+// cancellation: when v is a product inlined from the objective, compilers
+// for arm64, ppc64le, s390x, riscv64 and amd64 v3 may fuse v-v into one
+// multiply-subtract, x·y − round(x·y), which yields the product's
+// rounding error instead of 0 (the Go spec allows such fusion; comparisons
+// are never fused).
+func tuneGainFinite(v float64) bool {
+	return v >= -tuneGainLargestFinite && v <= tuneGainLargestFinite
+}
+
+// tuneGainFiniteVec reports whether every component of x is finite.
+func tuneGainFiniteVec(x *[1]float64) bool {
+	for i := range x {
+		if !tuneGainFinite(x[i]) {
+			return false
+		}
+	}
+	return true
+}
+
+// tuneGainCalibrate chooses each central-difference interval from the
+// third derivative along e_i, estimated at x with four probes at ±h̄ and
+// ±2h̄, h̄ = u^(1/4)·s, s = max(1, |x_i|):
+//
+//	f‴ ≈ (f(x + 2h̄eᵢ) − 2f(x + h̄eᵢ) + 2f(x − h̄eᵢ) − f(x − 2h̄eᵢ)) / (2h̄³),
+//	h_i  = ∛(3ε_A / |f‴|)
+//
+// the interval that minimizes the truncation error h²|f‴|/6 plus the
+// rounding error ε_A/h of a central difference (Nocedal & Wright 2006,
+// §8.1, with the third-derivative estimate of the forward interval's
+// procedure of Gill, Murray, Saunders & Wright 1983 carried one order
+// up), with ε_A from tuneGainNoiseLevel and the probes' slopes. An estimate below
+// its rounding noise 3ε_A/h̄³ is replaced by that noise, and h_i is kept
+// within [64u·s, h̄]. It costs four objective calls per unknown.
+func tuneGainCalibrate(x *[1]float64, fx float64, diffs *tuneGainDifferences, budget int) (int, bool) {
+	probe := *x
+	var slope [1]float64
+	scale := tuneGainAbs(fx)
+	quarter := tuneGainSquareRoot(tuneGainSquareRoot(tuneGainUnitRoundoff)) // u^(1/4)
+	calls := 0
+	for i := range probe {
+		if calls+4 > budget {
+			return calls, false
+		}
+		xi := probe[i]
+		bar := quarter * tuneGainLarger(1, tuneGainAbs(xi))
+		lower, upper := tuneGainCoordinateRange(i, diffs)
+		if xi+2*bar > upper || xi-2*bar < lower {
+			// At a bound: three probes on the side with room, at h, 2h
+			// and 3h, for f‴ ≈ (f(3h) − 3f(2h) + 3f(h) − f(0))/h³ (the
+			// third forward difference).
+			h := tuneGainOneSide(xi, bar, 3, lower, upper)
+			if h == 0 {
+				continue // fixed by equal bounds
+			}
+			var f [3]float64
+			for k := range f {
+				probe[i], _ = tuneGainProbeStep(xi, float64(k+1)*h, lower, upper)
+				f[k] = GainCost(probe[0])
+				scale = tuneGainLarger(scale, tuneGainMagnitude(f[k]))
+			}
+			probe[i] = xi
+			calls += 3
+			if tuneGainFinite(f[0]) && tuneGainFinite(f[1]) && tuneGainFinite(f[2]) {
+				diffs.curvature[i] = tuneGainAbs(f[2]-3*f[1]+3*f[0]-fx) / tuneGainAbs(h*h*h)
+				diffs.second[i] = tuneGainAbs(fx-2*f[0]+f[1]) / (h * h)
+				slope[i] = (-3*fx + 4*f[0] - f[1]) / (2 * h)
+			}
+			continue
+		}
+		var f [4]float64
+		for k, m := range [4]float64{2, 1, -1, -2} {
+			probe[i], _ = tuneGainProbeStep(xi, m*bar, lower, upper)
+			f[k] = GainCost(probe[0])
+			scale = tuneGainLarger(scale, tuneGainMagnitude(f[k]))
+		}
+		probe[i] = xi
+		calls += 4
+		if tuneGainFinite(f[0]) && tuneGainFinite(f[1]) && tuneGainFinite(f[2]) && tuneGainFinite(f[3]) {
+			diffs.curvature[i] = tuneGainAbs(f[0]-2*f[1]+2*f[2]-f[3]) / (2 * bar * bar * bar)
+			diffs.second[i] = tuneGainAbs(f[1]-2*fx+f[2]) / (bar * bar)
+			slope[i] = (f[1] - f[2]) / (2 * bar)
+		}
+	}
+	noise := tuneGainNoiseLevel(x, scale, &slope)
+	for i := range probe {
+		s := tuneGainLarger(1, tuneGainAbs(probe[i]))
+		bar := quarter * s
+		third := tuneGainLarger(diffs.curvature[i], 3*noise/(bar*bar*bar))
+		h := bar
+		if third > 0 {
+			h = tuneGainCubeRoot(3 * noise / third) // N&W §8.1: minimizes h²|f‴|/6 + ε_A/h
+		}
+		diffs.ratio[i] = tuneGainClampBetween(h, 64*tuneGainUnitRoundoff*s, bar) / s
+		diffs.curvature[i] = third
+	}
+	return calls, true
+}
+
+// tuneGainAbs returns |v|.
+func tuneGainAbs(v float64) float64 {
+	if v < 0 {
+		return -v
+	}
+	return v
+}
+
+// tuneGainSquareRoot returns √v.
+func tuneGainSquareRoot(v float64) float64 {
+	return math.Sqrt(v)
+}
+
+// tuneGainLarger returns the larger of a and b, or a NaN among them. The builtin
+// max is not used: a package-level max or min in the user's package would
+// shadow it in the generated file.
+func tuneGainLarger(a, b float64) float64 {
+	if a > b || a != a {
+		return a
+	}
+	return b
+}
+
+// tuneGainCoordinateRange: without bounds any probe is allowed.
+func tuneGainCoordinateRange(i int, diffs *tuneGainDifferences) (lower, upper float64) {
+	return math.Inf(-1), math.Inf(1)
+}
+
+// tuneGainOneSide returns a signed interval for probes that reach reach·h from xi
+// on one side within [lower, upper]: +h when there is room above, else −h
+// when there is room below, else the larger room divided by reach, signed,
+// or 0 when xi cannot move at all (equal bounds).
+func tuneGainOneSide(xi, h, reach, lower, upper float64) float64 {
+	above, below := upper-xi, xi-lower
+	switch {
+	case above >= reach*h:
+		return h
+	case below >= reach*h:
+		return -h
+	case above >= below:
+		return above / reach
+	}
+	return -below / reach
+}
+
+// tuneGainProbeStep returns x_i moved by h, kept within [lower, upper], and the
+// step actually representable.
+func tuneGainProbeStep(xi, h, lower, upper float64) (float64, float64) {
+	moved := tuneGainClampBetween(xi+h, lower, upper)
+	return moved, moved - xi
+}
+
+// tuneGainClampBetween returns v limited to the interval with ends a and b, in
+// either order.
+func tuneGainClampBetween(v, a, b float64) float64 {
+	if a > b {
+		a, b = b, a
+	}
+	if v < a {
+		return a
+	}
+	if v > b {
+		return b
+	}
+	return v
+}
+
+// tuneGainMagnitude is |v| for a finite v and 0 otherwise: a probe that fell
+// outside the objective's domain says nothing about its rounding.
+func tuneGainMagnitude(v float64) float64 {
+	if !tuneGainFinite(v) {
+		return 0
+	}
+	return tuneGainAbs(v)
+}
+
+// tuneGainNoiseLevel is the absolute error assumed in a computed value fx of the
+// objective at x, where its gradient is about g:
+//
+//	ε_A = 4u·(|fx| + Σᵢ |gᵢ·xᵢ|),
+//
+// a few roundings of the result plus the change that rounding each xᵢ by
+// a relative u makes in f, which is what an objective computed with
+// cancellation inside (y − x² in Rosenbrock's valley) shows near a zero
+// minimum, where u·|f| alone vanishes (the first-order error of
+// evaluating f at a rounded x; the factor 4 is common practice; Gill,
+// Murray, Saunders & Wright 1983 leave ε_A to the user).
+func tuneGainNoiseLevel(x *[1]float64, fx float64, g *[1]float64) float64 {
+	sum := tuneGainAbs(fx)
+	for i := range x {
+		sum += tuneGainAbs(g[i] * x[i])
+	}
+	return 4 * tuneGainUnitRoundoff * sum
+}
+
+// tuneGainCubeRoot returns ∛v for v ≥ 0.
+func tuneGainCubeRoot(v float64) float64 {
+	return math.Cbrt(v)
+}
+
+// tuneGainDerivative approximates the gradient by central differences,
+//
+//	g_i ≈ (f(x + h_i e_i) − f(x − h_i e_i)) / (2 h_i),
+//
+// with the intervals tuneGainCalibrate chose, h_i = ratio_i·max(1, |x_i|)
+// (Nocedal & Wright 2006, eq. 8.7). It costs 2·dim objective calls. Where
+// a bound leaves no room on one side, the three-point endpoint formula on
+// the other side takes its place at the same cost (see parabola); a
+// variable fixed by equal bounds costs nothing and gets 0.
+func tuneGainDerivative(x *[1]float64, fx float64, g *[1]float64, diffs *tuneGainDifferences) int {
+	probe := *x
+	calls := 0
+	for i := range probe {
+		xi := probe[i]
+		h, oneSided := tuneGainCentralInterval(x, i, diffs)
+		lower, upper := tuneGainCoordinateRange(i, diffs)
+		switch {
+		case h == 0:
+			g[i] = 0 // fixed by equal bounds
+			continue
+		case oneSided:
+			g[i], _, _ = tuneGainSidedProbes(&probe, i, fx, h, lower, upper) // the three-point endpoint formula
+		default:
+			up, _ := tuneGainProbeStep(xi, h, lower, upper)
+			down, _ := tuneGainProbeStep(xi, -h, lower, upper)
+			probe[i] = up
+			fUp := GainCost(probe[0])
+			probe[i] = down
+			fDown := GainCost(probe[0])
+			g[i] = (fUp - fDown) / (up - down) // N&W eq. 8.7, with the representable 2h
+			probe[i] = xi
+		}
+		calls += 2
+	}
+	return calls
+}
+
+// tuneGainCentralInterval is the interval of coordinate i at x, ratio_i·max(1,
+// |x_i|), and whether the box leaves room for probes on both sides; when
+// it does not, the interval is signed towards the side with room for
+// probes at h and 2h, and shortened where the box is narrower than that
+// (see tuneGainOneSide).
+func tuneGainCentralInterval(x *[1]float64, i int, diffs *tuneGainDifferences) (h float64, oneSided bool) {
+	lower, upper := tuneGainCoordinateRange(i, diffs)
+	h = diffs.ratio[i] * tuneGainLarger(1, tuneGainAbs(x[i]))
+	if x[i]+h <= upper && x[i]-h >= lower {
+		return h, false
+	}
+	return tuneGainOneSide(x[i], h, 2, lower, upper), true
+}
+
+// tuneGainSidedProbes evaluates f at x moved along coordinate i by h and by 2h,
+// kept within [lower, upper], and returns the slope and second derivative
+// of the parabola through them and (x, fx) (see parabola), and the larger
+// magnitude of the two values.
+func tuneGainSidedProbes(probe *[1]float64, i int, fx, h, lower, upper float64) (slope, second, size float64) {
+	xi := probe[i]
+	near, a := tuneGainProbeStep(xi, h, lower, upper)
+	far, b := tuneGainProbeStep(xi, 2*h, lower, upper)
+	probe[i] = near
+	fNear := GainCost(probe[0])
+	probe[i] = far
+	fFar := GainCost(probe[0])
+	probe[i] = xi
+	slope, second = tuneGainParabola(fx, a, fNear, b, fFar)
+	return slope, second, tuneGainLarger(tuneGainMagnitude(fNear), tuneGainMagnitude(fFar))
+}
+
+// tuneGainParabola returns the first and second derivatives at 0 of the parabola
+// through (0, f0), (a, fa) and (b, fb), for probes on one side of a bound.
+// With b = 2a they are the three-point endpoint formulas
+// f′ ≈ (−3f0 + 4fa − fb)/(2a), error a²|f‴|/3, and
+// f″ ≈ (f0 − 2fa + fb)/a² (Burden & Faires, Numerical Analysis, §4.1
+// and §4.1's second-derivative formulas, from memory); written for unequal
+// a and b, so that the representable steps can be used.
+func tuneGainParabola(f0, a, fa, b, fb float64) (slope, second float64) {
+	slope = -(a+b)/(a*b)*f0 + b/(a*(b-a))*fa - a/(b*(b-a))*fb
+	second = 2 * (f0/(a*b) - fa/(a*(b-a)) + fb/(b*(b-a)))
+	return slope, second
+}
 
 // tuneGainSettle prepares a verdict at x: with differences it confirms the
 // gradient (tuneGainConfirmGradient), and at a stall it adds to each error bound
@@ -668,13 +976,13 @@ func tuneGainConfirmGradient(x *[1]float64, fx float64, g, e *[1]float64, diffs 
 		wide.ratio[i] *= 2
 	}
 	var doubled [1]float64
-	tuneGainDerivative(x, fx, g, diffs)
-	tuneGainDerivative(x, fx, &doubled, &wide)
+	calls += tuneGainDerivative(x, fx, g, diffs)
+	calls += tuneGainDerivative(x, fx, &doubled, &wide)
 	tuneGainGradientError(x, fx, g, e, diffs)
 	for i := range e {
 		e[i] += 3 * tuneGainAbs(g[i]-doubled[i])
 	}
-	return calls + 2*tuneGainDerivativeCost, true
+	return calls, true
 }
 
 // tuneGainGradientError bounds each central difference's error by twice its
@@ -684,8 +992,16 @@ func tuneGainConfirmGradient(x *[1]float64, fx float64, g, e *[1]float64, diffs 
 func tuneGainGradientError(x *[1]float64, fx float64, g, e *[1]float64, diffs *tuneGainDifferences) {
 	noise := tuneGainNoiseLevel(x, fx, g)
 	for i := range e {
-		h := diffs.ratio[i] * tuneGainLarger(1, tuneGainAbs(x[i]))
-		e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		h, oneSided := tuneGainCentralInterval(x, i, diffs)
+		h = tuneGainAbs(h)
+		switch {
+		case h == 0:
+			e[i] = 0 // fixed by equal bounds
+		case oneSided:
+			e[i] = 2 * (h*h*diffs.curvature[i]/3 + 4*noise/h) // the endpoint formula: truncation h²|f‴|/3, rounding (3 + 4 + 1)ε_A/(2h)
+		default:
+			e[i] = 2 * (h*h*diffs.curvature[i]/6 + noise/h)
+		}
 	}
 }
 
@@ -707,6 +1023,11 @@ func tuneGainRoundingFloor(x, g, e *[1]float64, diffs *tuneGainDifferences) {
 // calibration, which tuneGainConfirmGradient has just made at x.
 func tuneGainDiagonalCurvature(x, g *[1]float64, diffs *tuneGainDifferences, h *[1]float64) {
 	*h = diffs.second
+}
+
+// tuneGainStationarity measures the gradient itself.
+func tuneGainStationarity(g, e, x *[1]float64, fx float64, b *tuneGainBox) (measure, floor float64) {
+	return tuneGainGradientMeasure(g, e, x, fx)
 }
 
 // tuneGainGradientMeasure is the scale-free measure
@@ -742,6 +1063,14 @@ func tuneGainStepWithin(s, x *[1]float64, tol float64) bool {
 	return true
 }
 
+// tuneGainCurvaturePair: without bounds the pair is used as it is.
+func tuneGainCurvaturePair(s, y, x *[1]float64, b *tuneGainBox) {}
+
+// tuneGainSearchDirection is the direction's own.
+func tuneGainSearchDirection(dir *tuneGainDirection, x, g, d *[1]float64, b *tuneGainBox) {
+	dir.compute(g, d)
+}
+
 // tuneGainTinyStep returns the longest t for which the step t·d from x passes the
 // step test, min over i of tol·(|x_i| + 1)/|d_i|, or −1 when d is zero.
 func tuneGainTinyStep(x, d *[1]float64, tol float64) float64 {
@@ -760,7 +1089,7 @@ func tuneGainTinyStep(x, d *[1]float64, tol float64) float64 {
 // acceptance test holds, taking t ← next trial after each
 // failure, by fixed shrink or by interpolation (Nocedal & Wright 2006,
 // Algorithm 3.1 and §3.5). A non-finite value fails like any trial.
-func tuneGainLineSearch(x *[1]float64, fx float64, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *tuneGainDifferences) tuneGainLineResult {
+func tuneGainLineSearch(x *[1]float64, fx float64, g, d *[1]float64, slope, first, tiny float64, budget int, xt, gt *[1]float64, diffs *tuneGainDifferences) tuneGainLineResult {
 	t := first
 	var previous, fPrevious float64
 	var trend tuneGainRiseTrend
@@ -771,9 +1100,9 @@ func tuneGainLineSearch(x *[1]float64, fx float64, d *[1]float64, slope, first, 
 		if trial >= budget {
 			return tuneGainLineResult{calls: trial, end: tuneGainSearchOutOfBudget}
 		}
-		tuneGainMoveTo(xt, x, t, d)
+		tuneGainTrialPoint(xt, x, t, d, &diffs.bounds)
 		ft := GainCost(xt[0])
-		if tuneGainFinite(ft) && tuneGainAcceptable(fx, ft, t, slope) {
+		if tuneGainFinite(ft) && tuneGainAcceptable(fx, ft, t, slope, x, xt, g) {
 			return tuneGainLineResult{step: t, value: ft, calls: trial + 1, end: tuneGainSearchAccepted}
 		}
 		trend.add(x, xt, d, t, ft-fx, fx)
@@ -876,6 +1205,11 @@ const (
 	tuneGainSearchDiverged                             // a fixed step's value overflowed
 )
 
+// tuneGainTrialPoint is x + t·d.
+func tuneGainTrialPoint(out, x *[1]float64, t float64, d *[1]float64, b *tuneGainBox) {
+	tuneGainMoveTo(out, x, t, d)
+}
+
 // tuneGainMoveTo sets out = x + t·d.
 func tuneGainMoveTo(out, x *[1]float64, t float64, d *[1]float64) {
 	for i := range x {
@@ -894,7 +1228,7 @@ func tuneGainMoveTo(out, x *[1]float64, t float64, d *[1]float64) {
 //     first partial derivatives, Pacific J. Math. 16(1):1–3, 1966.
 //   - J. Nocedal and S. J. Wright, Numerical Optimization, 2nd ed.,
 //     Springer, 2006, §3.1 and §3.5.
-func tuneGainAcceptable(fx, ft, t, slope float64) bool {
+func tuneGainAcceptable(fx, ft, t, slope float64, x, xt, g *[1]float64) bool {
 	return ft <= fx+tuneGainStepDecrease*t*slope // N&W eq. 3.4
 }
 
@@ -909,3 +1243,6 @@ func tuneGainDifference(out, a, b *[1]float64) {
 		out[i] = a[i] - b[i]
 	}
 }
+
+// tuneGainUnlimited is a tick budget that never pauses a run.
+const tuneGainUnlimited = int(^uint(0) >> 1)
